@@ -1,0 +1,175 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"wetline/rating"
+	"wetline/survey"
+)
+
+type rateFlags struct {
+	sectionFlags
+	slope          float64
+	from, to, step float64
+	stages         []float64
+	format, output string
+}
+
+const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE]"
+
+func runRate(ctx context.Context, e *env, args []string) error {
+	fs := newFlags("rate", rateUsage)
+	var f rateFlags
+	f.sectionFlags.register(fs)
+	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
+	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
+	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
+	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
+	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
+	fs.StringVar(&f.format, "format", "", "output format: csv or json (default: from the -o extension, else csv)")
+	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	if err := parseFlags(fs, e, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return usagef("rate: want one SURVEY file, got %d arguments", fs.NArg())
+	}
+	if !(f.slope > 0) || math.IsInf(f.slope, 0) {
+		return usagef("rate: --slope S (a positive friction slope) is required")
+	}
+	format, err := outputFormat(f.format, f.output, "csv", "json")
+	if err != nil {
+		return err
+	}
+	l, err := f.load(fs.Arg(0))
+	if err != nil {
+		return err
+	}
+	if f.output != "" {
+		if err := survey.CheckOutput(f.output, l.inputs); err != nil {
+			return err
+		}
+	}
+	stages, err := f.stageList(l)
+	if err != nil {
+		return err
+	}
+	t, err := rating.Compute(l.geom, stages, rating.Options{Slope: f.slope, Units: l.units, Geometry: l.geomOpt})
+	if err != nil {
+		return fmt.Errorf("%s: %w", fs.Arg(0), err)
+	}
+	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
+	write := func(w io.Writer) error {
+		if format == "json" {
+			return survey.WriteRatingJSON(w, t, warnings)
+		}
+		return survey.WriteRatingCSV(w, t)
+	}
+	if f.output == "" {
+		if err := write(e.stdout); err != nil {
+			return err
+		}
+		printWarnings(e.stderr, warnings)
+		return nil
+	}
+	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
+		return err
+	}
+	summarizeRating(e.stderr, t, f.output, warnings)
+	return nil
+}
+
+// stageList returns the stages asked for, or the default range.
+func (f *rateFlags) stageList(l *loaded) ([]float64, error) {
+	if len(f.stages) > 0 {
+		if !math.IsNaN(f.from) || !math.IsNaN(f.to) || !math.IsNaN(f.step) {
+			return nil, usagef("rate: give --stages or --from/--to/--step, not both")
+		}
+		for _, h := range f.stages {
+			if math.IsNaN(h) || math.IsInf(h, 0) {
+				return nil, usagef("rate: --stages: %v is not a finite stage", h)
+			}
+		}
+		return f.stages, nil
+	}
+	if math.IsNaN(f.from) && math.IsNaN(f.to) && math.IsNaN(f.step) {
+		return rating.DefaultStages(l.geom), nil
+	}
+	from, to, step := f.from, f.to, f.step
+	if math.IsNaN(from) {
+		from = l.geom.Bottom()
+	}
+	if math.IsNaN(to) {
+		to = l.geom.Top()
+	}
+	if math.IsNaN(step) {
+		step = rating.NiceStep((to - from) / rating.MaxDefaultRows)
+	}
+	s, err := rating.StageRange(from, to, step)
+	if err != nil {
+		return nil, usageError{err}
+	}
+	return s, nil
+}
+
+// outputFormat picks the format from the flag, else from the output file's
+// extension, else the first allowed one.
+func outputFormat(flag, output string, allowed ...string) (string, error) {
+	f := strings.ToLower(flag)
+	if f == "" {
+		ext := strings.TrimPrefix(strings.ToLower(filepath.Ext(output)), ".")
+		for _, a := range allowed {
+			if a == ext {
+				return a, nil
+			}
+		}
+		return allowed[0], nil
+	}
+	for _, a := range allowed {
+		if a == f {
+			return f, nil
+		}
+	}
+	return "", usagef("--format %q: want one of %s", flag, strings.Join(allowed, ", "))
+}
+
+func printWarnings(w io.Writer, warnings []string) {
+	for _, s := range warnings {
+		fmt.Fprintln(w, "warning: "+s)
+	}
+}
+
+// summarizeRating prints the console summary of a written rating table.
+func summarizeRating(w io.Writer, t rating.Table, path string, warnings []string) {
+	u := t.Units
+	fmt.Fprintf(w, "wrote %s: %d stages", path, len(t.Rows))
+	if n := len(t.Rows); n > 0 {
+		lo, hi := t.Rows[0], t.Rows[0]
+		for _, r := range t.Rows {
+			if r.Stage < lo.Stage {
+				lo = r
+			}
+			if r.Stage > hi.Stage {
+				hi = r
+			}
+		}
+		fmt.Fprintf(w, " from %.3f to %.3f %s, discharge %s to %s %s",
+			lo.Stage, hi.Stage, u.Length(), sig3(lo.Discharge), sig3(hi.Discharge), u.Discharge())
+	}
+	fmt.Fprintf(w, " (slope %g, %s units)\n", t.Slope, u)
+	printWarnings(w, warnings)
+	fmt.Fprintln(w, "caution: "+survey.Caution)
+}
+
+// sig3 formats a value to three significant figures for a summary.
+func sig3(v float64) string {
+	if math.IsNaN(v) {
+		return "-"
+	}
+	return fmt.Sprintf("%.3g", v)
+}

@@ -1,0 +1,129 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"wetline/subdivide"
+)
+
+// ErrNoN is returned when a wetted subsection has no Manning's n.
+var ErrNoN = errors.New("no Manning's n for a wetted subsection (give an n column or --n)")
+
+// ErrSlope is returned for a friction slope that is not a positive number.
+var ErrSlope = errors.New("slope must be a positive number")
+
+// Row is the hydraulics of a section at one stage. Units follow the
+// package's unit system; undefined values are NaN.
+type Row struct {
+	// Stage is the water-surface elevation; Depth is Stage minus the
+	// lowest ground elevation.
+	Stage, Depth float64
+	// Geometry of the whole section (see subdivide.Wetted).
+	Area, WettedPerimeter, TopWidth, HydraulicRadius, HydraulicDepth float64
+	// Conveyance K = ΣKi; Discharge Q = K·√S; MeanVelocity Q/A.
+	Conveyance, Discharge, MeanVelocity float64
+	// Alpha and Beta are the energy and momentum coefficients.
+	Alpha, Beta float64
+	// Froude is √(α·Q²·T/(g·A³)).
+	Froude float64
+	// ShearStress is the mean boundary shear γ·R·S.
+	ShearStress float64
+	// Subs is each subsection's share.
+	Subs []SubRow
+	// ExtendedLeft and ExtendedRight are the wall heights added above the ends.
+	ExtendedLeft, ExtendedRight float64
+	// Pools is the number of separate wetted reaches counted.
+	Pools int
+	// Full reports a closed conduit flowing full.
+	Full bool
+}
+
+// SubRow is one subsection's hydraulics at a stage.
+type SubRow struct {
+	subdivide.SubWetted
+	// Conveyance is (k/n)·A·R^(2/3); Discharge its share Ki·√S; Velocity
+	// Discharge/Area (NaN when dry).
+	Conveyance, Discharge, Velocity float64
+}
+
+// Conveyance returns Manning's conveyance K = (k/n)·A·R^(2/3) of a single
+// subsection with area a, wetted perimeter p and roughness n; zero when dry.
+//
+// Reference: Chow (1959), Open-Channel Hydraulics, section 6-4 and eq. 6-9.
+func Conveyance(a, p, n float64, u Units) float64 {
+	if a <= 0 || p <= 0 {
+		return 0
+	}
+	return u.ManningK() / n * a * math.Pow(a/p, 2.0/3.0)
+}
+
+// Hydraulics computes the hydraulics of wetted geometry w with friction
+// slope s by the subdivided Manning method: conveyance is summed over
+// subsections, and
+//
+//	α = Σ(Ki³/Ai²) / (Kt³/At²)      β = Σ(Ki²/Ai) / (Kt²/At)
+//
+// (Chow, 1959, section 2-7; the conveyance-weighted form used in the
+// slope-area method, Dalrymple & Benson, 1967, USGS TWRI 3-A2).
+// bottom is the lowest ground elevation, from which Depth is counted.
+func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
+	if !(s > 0) || math.IsInf(s, 0) {
+		return Row{}, fmt.Errorf("slope %v: %w", s, ErrSlope)
+	}
+	r := Row{
+		Stage: w.Stage, Depth: w.Stage - bottom,
+		Area: w.Area, WettedPerimeter: w.WettedPerimeter, TopWidth: w.TopWidth,
+		HydraulicRadius: w.HydraulicRadius, HydraulicDepth: w.HydraulicDepth,
+		Subs:         make([]SubRow, len(w.Subs)),
+		ExtendedLeft: w.ExtendedLeft, ExtendedRight: w.ExtendedRight,
+		Pools: w.Pools, Full: w.Full,
+	}
+	if r.Depth < 0 {
+		r.Depth = 0
+	}
+	root := math.Sqrt(s)
+	var k3a2, k2a float64
+	for i, sw := range w.Subs {
+		sr := SubRow{SubWetted: sw, Velocity: math.NaN()}
+		if sw.Area > 0 {
+			if !(sw.N > 0) {
+				return r, fmt.Errorf("stations %g to %g: %w", sw.From, sw.To, ErrNoN)
+			}
+			sr.Conveyance = Conveyance(sw.Area, sw.WettedPerimeter, sw.N, u)
+			sr.Discharge = sr.Conveyance * root
+			sr.Velocity = sr.Discharge / sw.Area
+			k3a2 += sr.Conveyance * sr.Conveyance * sr.Conveyance / (sw.Area * sw.Area)
+			k2a += sr.Conveyance * sr.Conveyance / sw.Area
+		}
+		r.Conveyance += sr.Conveyance
+		r.Subs[i] = sr
+	}
+	r.Discharge = r.Conveyance * root
+	nan := math.NaN()
+	r.MeanVelocity, r.Alpha, r.Beta, r.Froude, r.ShearStress = nan, nan, nan, nan, nan
+	if r.Area > 0 && r.Conveyance > 0 {
+		kt, at := r.Conveyance, r.Area
+		r.MeanVelocity = r.Discharge / at
+		r.Alpha = k3a2 / (kt * kt * kt / (at * at))
+		r.Beta = k2a / (kt * kt / at)
+		if r.TopWidth > 0 {
+			r.Froude = FroudeNumber(r.Discharge, at, r.TopWidth, r.Alpha, u)
+		}
+	}
+	if !math.IsNaN(r.HydraulicRadius) {
+		r.ShearStress = u.UnitWeight() * r.HydraulicRadius * s
+	}
+	return r, nil
+}
+
+// FroudeNumber returns √(α·Q²·T/(g·A³)) for discharge q, area a, top width t
+// and energy coefficient alpha: 1 at critical flow (Chow, 1959, eq. 4-4,
+// with α as in section 4-2). NaN when a or t is not positive.
+func FroudeNumber(q, a, t, alpha float64, u Units) float64 {
+	if !(a > 0) || !(t > 0) {
+		return math.NaN()
+	}
+	return math.Sqrt(alpha * q * q * t / (u.Gravity() * a * a * a))
+}

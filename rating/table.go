@@ -1,0 +1,191 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"wetline/subdivide"
+)
+
+// Options configure a rating table. Slope is required; the zero value of
+// every other field is the default.
+type Options struct {
+	// Slope is the friction (energy) slope, dimensionless, > 0.
+	Slope float64
+	// Units is the unit system of the geometry and the results (default SI).
+	Units Units
+	// Geometry controls pockets and end extension (see subdivide.Options).
+	Geometry subdivide.Options
+}
+
+// Table is a stage–discharge rating computed from section geometry.
+type Table struct {
+	// Name is the section's name.
+	Name string
+	// Units is the unit system of every value.
+	Units Units
+	// Slope is the friction slope used.
+	Slope float64
+	// Bottom is the lowest ground elevation; Top the lower end elevation.
+	Bottom, Top float64
+	// Subsections is the subsection layout, in the order of Row.Subs.
+	Subsections []subdivide.Subsection
+	// Rows holds one row per stage, in the order the stages were given.
+	Rows []Row
+	// Warnings are facts a reviewer should see (ends extended, pockets).
+	Warnings []string
+}
+
+// MaxDefaultRows bounds the row count DefaultStages aims for.
+const MaxDefaultRows = 50
+
+// DefaultStages returns stages from the lowest ground point to the lower
+// end of the section in a round step (1, 2 or 5 times a power of ten)
+// giving at most about MaxDefaultRows rows. The first stage is the bottom
+// rounded down to the step; the last is the top.
+func DefaultStages(g subdivide.Geometry) []float64 {
+	lo, hi := g.Bottom(), g.Top()
+	if !(hi > lo) {
+		return []float64{lo}
+	}
+	step := NiceStep((hi - lo) / MaxDefaultRows)
+	start := math.Ceil(lo/step-StageEpsilon) * step
+	out := []float64{lo}
+	for i := 0; ; i++ {
+		h := start + float64(i)*step
+		if h >= hi-step*StageEpsilon {
+			break
+		}
+		if h > lo+step*StageEpsilon {
+			out = append(out, h)
+		}
+	}
+	return append(out, hi)
+}
+
+// StageEpsilon is the fraction of a step within which two stages are taken
+// to be the same when laying out a stage range.
+const StageEpsilon = 1e-9
+
+// NiceStep rounds x > 0 up to 1, 2 or 5 times a power of ten.
+func NiceStep(x float64) float64 {
+	if !(x > 0) || math.IsInf(x, 0) {
+		return 1
+	}
+	p := math.Pow(10, math.Floor(math.Log10(x)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= x*(1-StageEpsilon) {
+			return m * p
+		}
+	}
+	return 10 * p
+}
+
+// ErrStages is returned for an unusable stage range.
+var ErrStages = errors.New("stage range")
+
+// MaxStages bounds the number of stages one range may produce.
+const MaxStages = 10_000_000
+
+// StageRange returns stages from `from` to `to` inclusive in steps of
+// `step` (> 0). The last stage is `to` even when the step does not divide
+// the range.
+func StageRange(from, to, step float64) ([]float64, error) {
+	if !finiteAll(from, to, step) || !(step > 0) || to < from {
+		return nil, fmt.Errorf("%w: from %g to %g step %g: need from ≤ to and step > 0", ErrStages, from, to, step)
+	}
+	n := math.Floor((to-from)/step + StageEpsilon)
+	if n+2 > MaxStages {
+		return nil, fmt.Errorf("%w: %g stages is more than %d", ErrStages, n+1, MaxStages)
+	}
+	out := make([]float64, 0, int(n)+2)
+	for i := 0; i <= int(n); i++ {
+		out = append(out, from+float64(i)*step)
+	}
+	if to-out[len(out)-1] > step*StageEpsilon*10 {
+		out = append(out, to)
+	}
+	return out, nil
+}
+
+func finiteAll(v ...float64) bool {
+	for _, x := range v {
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return false
+		}
+	}
+	return true
+}
+
+// Compute rates geometry g at each stage. Stages may come in any order; rows
+// keep that order. A stage below the lowest ground gives a dry row.
+func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error) {
+	t := Table{
+		Units: opt.Units, Slope: opt.Slope,
+		Bottom: g.Bottom(), Top: g.Top(),
+		Subsections: g.Subsections(),
+		Rows:        make([]Row, 0, len(stages)),
+	}
+	if p, ok := g.(*subdivide.Profile); ok {
+		t.Name = p.Name()
+	}
+	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
+		return t, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
+	}
+	var maxL, maxR, maxStage float64
+	pools := 0
+	maxStage = math.Inf(-1)
+	for _, h := range stages {
+		w, err := g.At(h, opt.Geometry)
+		if err != nil {
+			return t, err
+		}
+		r, err := Hydraulics(w, t.Bottom, opt.Slope, opt.Units)
+		if err != nil {
+			return t, fmt.Errorf("stage %g: %w", h, err)
+		}
+		maxL = math.Max(maxL, w.ExtendedLeft)
+		maxR = math.Max(maxR, w.ExtendedRight)
+		if w.Pools > pools {
+			pools = w.Pools
+		}
+		maxStage = math.Max(maxStage, h)
+		t.Rows = append(t.Rows, r)
+	}
+	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
+	if pools > 1 && !opt.Geometry.Connected {
+		t.Warnings = append(t.Warnings, fmt.Sprintf(
+			"at some stages the water stands in %d separate pools; all are counted (use --connected to keep only the main channel's)", pools))
+	}
+	return t, nil
+}
+
+// ExtensionWarnings words the warnings for stages above the section's ends.
+func ExtensionWarnings(left, right, maxStage float64, u Units) []string {
+	var out []string
+	if left > 0 {
+		out = append(out, fmt.Sprintf("stages up to %.3f %s are above the left end of the section: a vertical wall up to %.3f %s high was added there",
+			maxStage, u.Length(), left, u.Length()))
+	}
+	if right > 0 {
+		out = append(out, fmt.Sprintf("stages up to %.3f %s are above the right end of the section: a vertical wall up to %.3f %s high was added there",
+			maxStage, u.Length(), right, u.Length()))
+	}
+	return out
+}
+
+// SortedStages returns a sorted copy of stages without duplicates.
+func SortedStages(stages []float64) []float64 {
+	out := append([]float64(nil), stages...)
+	sort.Float64s(out)
+	j := 0
+	for i, v := range out {
+		if i == 0 || v != out[j-1] {
+			out[j] = v
+			j++
+		}
+	}
+	return out[:j]
+}

@@ -1,0 +1,104 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// ParseError reports a problem at a place in an input file. Row and Column
+// are 1-based; zero means the whole file or the whole row.
+type ParseError struct {
+	File   string // path as given
+	Sheet  string // workbook sheet, empty for CSV
+	Row    int    // line in a CSV file, row in a sheet
+	Column int    // field number in a CSV record, column in a sheet
+	Name   string // the column's name, e.g. "elevation"
+	Text   string // the offending cell text, if any
+	Err    error
+}
+
+// Error formats the position in the manner of compilers for CSV
+// (xs2.csv:14:2: elevation "1,5": not a number) and as a cell reference for
+// workbooks (field.xlsx['XS-2']!B14: ...).
+func (e *ParseError) Error() string {
+	var b strings.Builder
+	b.WriteString(e.Position())
+	b.WriteString(": ")
+	if e.Name != "" {
+		b.WriteString(e.Name)
+		if e.Text != "" {
+			fmt.Fprintf(&b, " %q", e.Text)
+		}
+		b.WriteString(": ")
+	}
+	if e.Err != nil {
+		b.WriteString(e.Err.Error())
+	}
+	return b.String()
+}
+
+// Position formats where the error is, without the cause.
+func (e *ParseError) Position() string {
+	var b strings.Builder
+	b.WriteString(e.File)
+	if e.Sheet != "" {
+		fmt.Fprintf(&b, "['%s']", e.Sheet)
+		if e.Row > 0 && e.Column > 0 {
+			cell, err := excelize.CoordinatesToCellName(e.Column, e.Row)
+			if err == nil {
+				b.WriteString("!" + cell)
+			}
+		} else if e.Row > 0 {
+			fmt.Fprintf(&b, " row %d", e.Row)
+		}
+	} else if e.Row > 0 {
+		fmt.Fprintf(&b, ":%d", e.Row)
+		if e.Column > 0 {
+			fmt.Fprintf(&b, ":%d", e.Column)
+		}
+	}
+	return b.String()
+}
+
+func (e *ParseError) Unwrap() error { return e.Err }
+
+// Causes, for errors.Is.
+var (
+	ErrNotNumber     = errors.New("not a number")
+	ErrDecimalComma  = errors.New("decimal comma: write numbers with a decimal point")
+	ErrNotFinite     = errors.New("not a finite number")
+	ErrMissingColumn = errors.New("missing column")
+	ErrEmpty         = errors.New("no data rows")
+	ErrSemicolon     = errors.New("the file is separated by semicolons; save it as comma-separated values with decimal points")
+	ErrBankMarks     = errors.New("exactly two points must be marked bank")
+	ErrNotPositive   = errors.New("must be a positive number")
+	ErrOverhang      = errors.New("station is less than the one before (an overhang)")
+	ErrTooFew        = errors.New("a section needs at least two points")
+)
+
+// MaxReported bounds how many row errors one file reports.
+const MaxReported = 20
+
+// errorList joins parse errors, one per line, keeping at most MaxReported.
+type errorList []*ParseError
+
+func (l errorList) err() error {
+	if len(l) == 0 {
+		return nil
+	}
+	errs := make([]error, 0, len(l))
+	for i, e := range l {
+		if i == MaxReported {
+			errs = append(errs, fmt.Errorf("%s: %d more errors not shown", e.File, len(l)-MaxReported))
+			break
+		}
+		errs = append(errs, e)
+	}
+	if len(errs) == 1 {
+		return errs[0]
+	}
+	return errors.Join(errs...)
+}

@@ -1,0 +1,190 @@
+package survey
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+
+	"wetline/rating"
+)
+
+// Caution is the short statement every report carries.
+const Caution = "Computed ratings and flood estimates are estimates: verify them against discharge measurements. " +
+	"Local codes, agency standards and licensed professional judgement govern their use for design or flood warning."
+
+// RatingColumns are the leading column names of a rating table, in order.
+// They are a contract with scripts; add columns after them, never between.
+var RatingColumns = []string{
+	"stage", "depth", "area", "wetted_perimeter", "top_width", "hydraulic_radius",
+	"conveyance", "discharge", "mean_velocity", "alpha", "froude",
+}
+
+// ExtraRatingColumns follow RatingColumns and precede the per-subsection
+// discharges.
+var ExtraRatingColumns = []string{"hydraulic_depth", "beta", "shear_stress"}
+
+// SubsectionColumn names the discharge column of subsection i (0-based).
+func SubsectionColumn(t rating.Table, i int) string {
+	s := t.Subsections[i]
+	return fmt.Sprintf("discharge_%d_%s", i+1, regionTag(s.Region.String()))
+}
+
+func regionTag(r string) string {
+	switch r {
+	case "left overbank":
+		return "left"
+	case "right overbank":
+		return "right"
+	}
+	return "channel"
+}
+
+// rowValues returns a row's values in column order.
+func rowValues(r rating.Row) []float64 {
+	v := []float64{r.Stage, r.Depth, r.Area, r.WettedPerimeter, r.TopWidth, r.HydraulicRadius,
+		r.Conveyance, r.Discharge, r.MeanVelocity, r.Alpha, r.Froude,
+		r.HydraulicDepth, r.Beta, r.ShearStress}
+	for _, s := range r.Subs {
+		v = append(v, s.Discharge)
+	}
+	return v
+}
+
+// FormatFloat writes v with up to 6 significant digits in a plain form,
+// and "" for NaN or ±Inf (an undefined value).
+func FormatFloat(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// WriteRatingCSV writes a rating table as CSV: a header row of column names
+// (RatingColumns, ExtraRatingColumns, then one discharge column per
+// subsection), then one row per stage. Undefined values are empty cells.
+// Units are those of t.Units; the CSV has no comment lines, so it loads
+// into any spreadsheet.
+func WriteRatingCSV(w io.Writer, t rating.Table) error {
+	bw := bufio.NewWriter(w)
+	cols := append(append([]string(nil), RatingColumns...), ExtraRatingColumns...)
+	for i := range t.Subsections {
+		cols = append(cols, SubsectionColumn(t, i))
+	}
+	writeRecord(bw, cols)
+	rec := make([]string, 0, len(cols))
+	for _, r := range t.Rows {
+		rec = rec[:0]
+		for _, v := range rowValues(r) {
+			rec = append(rec, FormatFloat(v))
+		}
+		writeRecord(bw, rec)
+	}
+	return bw.Flush()
+}
+
+func writeRecord(w *bufio.Writer, rec []string) {
+	for i, s := range rec {
+		if i > 0 {
+			w.WriteByte(',')
+		}
+		w.WriteString(s)
+	}
+	w.WriteByte('\n')
+}
+
+// Float is a float64 that encodes NaN and ±Inf as JSON null.
+type Float float64
+
+// MarshalJSON writes null for undefined values.
+func (f Float) MarshalJSON() ([]byte, error) {
+	v := float64(f)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return []byte("null"), nil
+	}
+	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
+}
+
+type jsonSub struct {
+	FromStation     Float  `json:"from_station"`
+	ToStation       Float  `json:"to_station"`
+	Region          string `json:"region"`
+	N               Float  `json:"n"`
+	Area            Float  `json:"area"`
+	WettedPerimeter Float  `json:"wetted_perimeter"`
+	TopWidth        Float  `json:"top_width"`
+	Conveyance      Float  `json:"conveyance"`
+	Discharge       Float  `json:"discharge"`
+	MeanVelocity    Float  `json:"mean_velocity"`
+}
+
+type jsonRow struct {
+	Stage           Float     `json:"stage"`
+	Depth           Float     `json:"depth"`
+	Area            Float     `json:"area"`
+	WettedPerimeter Float     `json:"wetted_perimeter"`
+	TopWidth        Float     `json:"top_width"`
+	HydraulicRadius Float     `json:"hydraulic_radius"`
+	Conveyance      Float     `json:"conveyance"`
+	Discharge       Float     `json:"discharge"`
+	MeanVelocity    Float     `json:"mean_velocity"`
+	Alpha           Float     `json:"alpha"`
+	Froude          Float     `json:"froude"`
+	HydraulicDepth  Float     `json:"hydraulic_depth"`
+	Beta            Float     `json:"beta"`
+	ShearStress     Float     `json:"shear_stress"`
+	Subsections     []jsonSub `json:"subsections"`
+}
+
+// UnitNames lists the unit of each quantity for a report header.
+func UnitNames(u rating.Units) map[string]string {
+	return map[string]string{
+		"system": u.String(), "length": u.Length(), "area": u.Area(),
+		"discharge": u.Discharge(), "velocity": u.Velocity(), "shear_stress": u.Stress(),
+	}
+}
+
+// WriteRatingJSON writes a rating table as one JSON object:
+// {"section","units","slope","rows":[...],"warnings":[...],"caution"}.
+// Undefined values are null.
+func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
+	rows := make([]jsonRow, len(t.Rows))
+	for i, r := range t.Rows {
+		jr := jsonRow{
+			Stage: Float(r.Stage), Depth: Float(r.Depth), Area: Float(r.Area),
+			WettedPerimeter: Float(r.WettedPerimeter), TopWidth: Float(r.TopWidth),
+			HydraulicRadius: Float(r.HydraulicRadius), Conveyance: Float(r.Conveyance),
+			Discharge: Float(r.Discharge), MeanVelocity: Float(r.MeanVelocity),
+			Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
+			Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
+			Subsections: make([]jsonSub, len(r.Subs)),
+		}
+		for j, s := range r.Subs {
+			jr.Subsections[j] = jsonSub{
+				FromStation: Float(s.From), ToStation: Float(s.To), Region: s.Region.String(), N: Float(s.N),
+				Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
+				Conveyance: Float(s.Conveyance), Discharge: Float(s.Discharge), MeanVelocity: Float(s.Velocity),
+			}
+		}
+		rows[i] = jr
+	}
+	if warnings == nil {
+		warnings = []string{}
+	}
+	out := struct {
+		Section  string            `json:"section"`
+		Units    map[string]string `json:"units"`
+		Slope    Float             `json:"slope"`
+		Rows     []jsonRow         `json:"rows"`
+		Warnings []string          `json:"warnings"`
+		Caution  string            `json:"caution"`
+	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, warnings, Caution}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(out)
+}
