@@ -177,3 +177,17 @@ func (s Section) region(a, b Point) Region {
 	}
 	return Channel
 }
+
+// XZ builds a ground line from station, elevation pairs:
+// XZ(0, 2, 5, 0, 10, 2) is three points. It panics on an odd count, a
+// programmer's mistake.
+func XZ(pairs ...float64) []Point {
+	if len(pairs)%2 != 0 {
+		panic("subdivide: XZ needs station, elevation pairs")
+	}
+	out := make([]Point, len(pairs)/2)
+	for i := range out {
+		out[i] = Point{Station: pairs[2*i], Elevation: pairs[2*i+1]}
+	}
+	return out
+}

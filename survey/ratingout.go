@@ -53,8 +53,9 @@ func rowValues(r rating.Row) []float64 {
 	return v
 }
 
-// FormatFloat writes v with up to 6 significant digits in a plain form,
-// and "" for NaN or ±Inf (an undefined value).
+// FormatFloat writes v with up to 9 significant digits (enough for a
+// stage of 5 digits before the point to the millimetre or 0.001 ft, while
+// hiding binary round-off), and "" for NaN or ±Inf (an undefined value).
 func FormatFloat(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
@@ -62,7 +63,7 @@ func FormatFloat(v float64) string {
 	if v == 0 {
 		return "0"
 	}
-	return strconv.FormatFloat(v, 'g', 6, 64)
+	return strconv.FormatFloat(v, 'g', 9, 64)
 }
 
 // WriteRatingCSV writes a rating table as CSV: a header row of column names

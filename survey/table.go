@@ -1,6 +1,7 @@
 package survey
 
 import (
+	"bufio"
 	"bytes"
 	"encoding/csv"
 	"errors"
@@ -73,7 +74,11 @@ func ReadTable(path, sheet string) (*Table, error) {
 // comments, a byte-order mark is dropped, blank lines are skipped and
 // ragged rows are padded to the header.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
-	cr := csv.NewReader(r)
+	br := bufio.NewReader(r)
+	if bom, err := br.Peek(3); err == nil && string(bom) == "\ufeff" {
+		br.Discard(3)
+	}
+	cr := csv.NewReader(br)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
@@ -93,7 +98,6 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 		}
 		line, _ := cr.FieldPos(0)
 		if t.Header == nil {
-			rec[0] = strings.TrimPrefix(rec[0], "\ufeff")
 			if blank(rec) {
 				continue
 			}

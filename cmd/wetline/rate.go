@@ -147,7 +147,7 @@ func printWarnings(w io.Writer, warnings []string) {
 // summarizeRating prints the console summary of a written rating table.
 func summarizeRating(w io.Writer, t rating.Table, path string, warnings []string) {
 	u := t.Units
-	fmt.Fprintf(w, "wrote %s: %d stages", path, len(t.Rows))
+	fmt.Fprintf(w, "wrote %s: %d stage(s)", path, len(t.Rows))
 	if n := len(t.Rows); n > 0 {
 		lo, hi := t.Rows[0], t.Rows[0]
 		for _, r := range t.Rows {

@@ -1,0 +1,203 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite golden files in testdata/")
+
+// runCLI runs the program with args and returns stdout, stderr and the exit
+// status main would use.
+func runCLI(t testing.TB, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
+	code := exitStatus(err, &errb)
+	return out.String(), errb.String(), code
+}
+
+// golden compares got with testdata/name, rewriting it with -update.
+func golden(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if *update {
+		if err := os.MkdirAll("testdata", 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if got != string(want) {
+		t.Errorf("output differs from %s (run go test -update after checking):\n got: %s\nwant: %s", path, got, want)
+	}
+}
+
+const demoSurveyPath = "../../testdata/tallow-xs1.csv"
+
+func TestRateGolden(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		args []string
+	}{
+		{"rate-default.golden", []string{"rate", demoSurveyPath, "--slope", "0.001"}},
+		{"rate-stages.golden", []string{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "100.3,101,102.5,103,105.5"}},
+		{"rate-connected.golden", []string{"rate", demoSurveyPath, "--slope", "0.001", "--connected", "--from", "102", "--to", "104", "--step", "0.5"}},
+		{"rate-json.golden", []string{"rate", demoSurveyPath, "--slope", "0.001", "--format", "json", "--stages", "100.3,102.5,103.2"}},
+		{"rate-n-override.golden", []string{"rate", demoSurveyPath, "--slope", "0.001", "--n", "0.05,0.03,0.09", "--banks", "40,70", "--stages", "102,103,104"}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			out, errs, code := runCLI(t, c.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			golden(t, c.name, out)
+		})
+	}
+}
+
+// TestDemoSurveyInSync keeps the testdata copy equal to the embedded demo.
+func TestDemoSurveyInSync(t *testing.T) {
+	a, _ := os.ReadFile(demoSurveyPath)
+	b, _ := demoFiles.ReadFile("demodata/" + demoSurvey)
+	if !bytes.Equal(a, b) {
+		t.Error("testdata/tallow-xs1.csv differs from cmd/wetline/demodata/tallow-xs1.csv")
+	}
+}
+
+func TestRateJSONUndefinedIsNull(t *testing.T) {
+	out, _, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "--format", "json", "--stages", "100.3")
+	if code != 0 {
+		t.Fatal(code)
+	}
+	var v struct {
+		Units map[string]string
+		Rows  []map[string]any
+	}
+	if err := json.Unmarshal([]byte(out), &v); err != nil {
+		t.Fatal(err)
+	}
+	if v.Rows[0]["froude"] != nil || v.Rows[0]["hydraulic_radius"] != nil || v.Units["discharge"] != "m3/s" {
+		t.Errorf("dry row should have null froude: %v, units %v", v.Rows[0], v.Units)
+	}
+}
+
+func TestRateWritesFileWithSummary(t *testing.T) {
+	dir := t.TempDir()
+	outPath := filepath.Join(dir, "r.json")
+	_, errs, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "-o", outPath)
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	if !strings.Contains(errs, "wrote "+outPath) || !strings.Contains(errs, "caution:") || !strings.Contains(errs, "m3/s") {
+		t.Errorf("summary: %s", errs)
+	}
+	data, _ := os.ReadFile(outPath)
+	if !json.Valid(data) {
+		t.Error("-o r.json did not choose JSON")
+	}
+}
+
+// TestBadInputs checks each bad input gives one clear line naming file, row
+// and column, the right exit status, and no output file.
+func TestBadInputs(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, body string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	cases := []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"decimal comma", []string{"rate", write("a.csv", "station,elevation,n\n0,1,0.03\n1,\"0,5\",\n2,1,\n"), "--slope", "0.001"}, 1, "a.csv:3:2: elevation \"0,5\": decimal comma"},
+		{"overhang", []string{"rate", write("b.csv", "station,elevation,n\n0,1,0.03\n2,0,\n1,1,\n"), "--slope", "0.001"}, 1, "b.csv:4:1"},
+		{"n zero", []string{"rate", write("c.csv", "station,elevation,n\n0,1,0\n2,0,\n3,1,\n"), "--slope", "0.001"}, 1, "c.csv:2:3"},
+		{"no n at all", []string{"rate", write("d.csv", "station,elevation\n0,1\n2,0\n3,1\n"), "--slope", "0.001"}, 1, "no n column"},
+		{"missing file", []string{"rate", filepath.Join(dir, "nope.csv"), "--slope", "0.001"}, 1, "nope.csv"},
+		{"no slope", []string{"rate", demoSurveyPath}, 2, "--slope"},
+		{"bad units", []string{"rate", demoSurveyPath, "--slope", "0.001", "--units", "furlongs"}, 2, "furlongs"},
+		{"bad flag", []string{"rate", demoSurveyPath, "--slope", "0.001", "--frobnicate"}, 2, "frobnicate"},
+		{"bad n flag", []string{"rate", demoSurveyPath, "--slope", "0.001", "--n", "0.03,x,0.05"}, 2, "--n"},
+		{"banks outside", []string{"rate", demoSurveyPath, "--slope", "0.001", "--banks", "-5,50"}, 1, "bank stations"},
+		{"no extend", []string{"rate", demoSurveyPath, "--slope", "0.001", "--no-extend", "--stages", "105"}, 1, "above"},
+		{"three n without banks", []string{"rate", write("e.csv", "station,elevation,n\n0,1,0.03\n2,0,\n3,1,\n"), "--slope", "0.001", "--n", "0.03,0.03,0.03"}, 1, "needs bank stations"},
+		{"unknown command", []string{"rattle"}, 2, "unknown command"},
+		{"sheet on csv", []string{"rate", demoSurveyPath, "--slope", "0.001", "--sheet", "XS-2"}, 1, "sheet"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			out := filepath.Join(dir, "out-"+strings.ReplaceAll(c.name, " ", "-")+".csv")
+			args := append(append([]string(nil), c.args...), "-o", out)
+			if c.args[0] != "rate" {
+				args = c.args
+			}
+			_, errs, code := runCLI(t, args...)
+			if code != c.code {
+				t.Errorf("exit %d, want %d (%s)", code, c.code, errs)
+			}
+			if !strings.Contains(errs, c.want) {
+				t.Errorf("stderr %q does not contain %q", errs, c.want)
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Error("an output file was written")
+			}
+		})
+	}
+}
+
+func TestRefusesToOverwriteInput(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "xs.csv")
+	data, _ := os.ReadFile(demoSurveyPath)
+	os.WriteFile(in, data, 0o644)
+	link := filepath.Join(dir, "link.csv")
+	if err := os.Symlink(in, link); err != nil {
+		t.Skip("no symlinks here")
+	}
+	_, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", link)
+	if code != 1 || !strings.Contains(errs, "refusing to write over an input") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	after, _ := os.ReadFile(in)
+	if !bytes.Equal(after, data) {
+		t.Error("input changed")
+	}
+}
+
+func TestHelpAndDemo(t *testing.T) {
+	out, _, code := runCLI(t, "rate", "--help")
+	if code != 0 || !strings.Contains(out, "--slope") {
+		t.Errorf("help: exit %d, %q", code, out)
+	}
+	dir := t.TempDir()
+	out, errs, code := runCLI(t, "demo", "-o", dir)
+	if code != 0 {
+		t.Fatalf("demo: exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "caution") {
+		t.Errorf("demo output lacks the caution: %s", out)
+	}
+	for _, f := range []string{"tallow-xs1.csv", "tallow-xs1-rating.csv"} {
+		if _, err := os.Stat(filepath.Join(dir, f)); err != nil {
+			t.Error(err)
+		}
+	}
+}

@@ -1,0 +1,108 @@
+package survey
+
+import (
+	"errors"
+	"strings"
+	"testing"
+)
+
+func TestParseSectionGood(t *testing.T) {
+	in := "\ufeff# comment line\nStation,Elevation,N,Mark,Note\n0,3,0.05,,\n2,1,,bank,left bank\n4,0,0.03,,\n6,1,,BANK,\n8,3,,, end\n"
+	sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := sv.Section
+	if len(s.Points) != 5 || !s.HasBanks || s.LeftBank != 2 || s.RightBank != 6 {
+		t.Errorf("section %+v", s)
+	}
+	// Blank n carries the previous value; n of point i applies to segment i.
+	want := []float64{0.05, 0.05, 0.03, 0.03}
+	for i, n := range want {
+		if s.N[i] != n {
+			t.Errorf("n[%d] = %g, want %g", i, s.N[i], n)
+		}
+	}
+	if sv.Notes[1] != "left bank" || sv.Rows[0] != 3 || s.Name != "xs" {
+		t.Errorf("notes %q rows %v name %q", sv.Notes, sv.Rows, s.Name)
+	}
+}
+
+// TestParseSectionErrors checks that every kind of bad input names its file,
+// row and column, and that nothing panics.
+func TestParseSectionErrors(t *testing.T) {
+	cases := []struct {
+		name, in string
+		want     string // substring of the message: file:line:column
+		is       error
+	}{
+		{"decimal comma", "station,elevation\n0,1\n1,\"0,5\"\n", `xs.csv:3:2: elevation "0,5": decimal comma`, ErrDecimalComma},
+		{"not a number", "station,elevation\n0,1\nabc,0\n", `xs.csv:3:1: station "abc": not a number`, ErrNotNumber},
+		{"nan", "station,elevation\n0,1\n1,NaN\n", `xs.csv:3:2: elevation "NaN": not a finite number`, ErrNotFinite},
+		{"inf", "station,elevation\n0,1\n1,+Inf\n", `xs.csv:3:2`, ErrNotFinite},
+		{"blank elevation", "station,elevation\n0,1\n1,\n", `xs.csv:3:2`, ErrNotNumber},
+		{"one point", "station,elevation\n0,1\n", `xs.csv:1: a section needs at least two points`, ErrTooFew},
+		{"missing column", "station,height\n0,1\n1,0\n", `xs.csv:1: elevation: missing column`, ErrMissingColumn},
+		{"n zero", "station,elevation,n\n0,1,0\n1,0,0.03\n", `xs.csv:2:3: n "0": Manning's n must be a positive number`, ErrNotPositive},
+		{"n negative", "station,elevation,n\n0,1,0.03\n1,0,-0.03\n2,1,\n", `xs.csv:3:3`, ErrNotPositive},
+		{"overhang", "station,elevation\n0,1\n2,0\n1,1\n", `xs.csv:4:1: station "1": station is less than the one before`, ErrOverhang},
+		{"three banks", "station,elevation,mark\n0,1,bank\n1,0,bank\n2,1,bank\n", `xs.csv:4:3`, ErrBankMarks},
+		{"one bank", "station,elevation,mark\n0,1,bank\n1,0,\n2,1,\n", `xs.csv:2:3`, ErrBankMarks},
+		{"empty file", "", `xs.csv: empty file`, nil},
+		{"only comments", "# nothing\n", `xs.csv: empty file`, nil},
+		{"semicolons", "station;elevation\n0;1,5\n", `xs.csv:1: the file is separated by semicolons`, ErrSemicolon},
+		{"zero width", "station,elevation\n1,1\n1,0\n", `xs.csv:3:1`, nil},
+		{"bad quoting", "station,elevation\n0,\"1\n", `xs.csv:2`, nil},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			_, err := ParseSection(strings.NewReader(c.in), "xs.csv", SectionOptions{})
+			if err == nil {
+				t.Fatal("no error")
+			}
+			if !strings.Contains(err.Error(), c.want) {
+				t.Errorf("error %q does not contain %q", err, c.want)
+			}
+			if c.is != nil && !errors.Is(err, c.is) {
+				t.Errorf("error %v is not %v", err, c.is)
+			}
+		})
+	}
+}
+
+// TestAllBadRowsReported checks that every bad row is reported together.
+func TestAllBadRowsReported(t *testing.T) {
+	_, err := ParseSection(strings.NewReader("station,elevation\n0,x\n1,y\n2,1\n"), "xs.csv", SectionOptions{})
+	if err == nil || !strings.Contains(err.Error(), "xs.csv:2:2") || !strings.Contains(err.Error(), "xs.csv:3:2") {
+		t.Errorf("error %v should name rows 2 and 3", err)
+	}
+}
+
+func TestParseSectionWarnings(t *testing.T) {
+	in := "station,elevation,n\n0,3,0.25\n1,1,0.03\n2,0,\n100,3,\n"
+	sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	all := strings.Join(sv.Warnings, "\n")
+	if !strings.Contains(all, "xs.csv:2:3") || !strings.Contains(all, "above 0.20") {
+		t.Errorf("no high-n warning naming the cell: %q", all)
+	}
+	if !strings.Contains(all, "xs.csv:5: gap of 98") {
+		t.Errorf("no station-gap warning: %q", all)
+	}
+}
+
+func TestIgnoreBankMarks(t *testing.T) {
+	in := "station,elevation,mark\n0,1,bank\n1,0,\n2,1,\n"
+	if _, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{IgnoreBankMarks: true}); err != nil {
+		t.Errorf("marks should be ignored: %v", err)
+	}
+}
+
+func TestParseErrorSheet(t *testing.T) {
+	e := &ParseError{File: "field.xlsx", Sheet: "XS-2", Row: 14, Column: 3, Name: "n", Text: "x", Err: ErrNotNumber}
+	if got, want := e.Error(), `field.xlsx['XS-2']!C14: n "x": not a number`; got != want {
+		t.Errorf("got %q, want %q", got, want)
+	}
+}
