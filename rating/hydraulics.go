@@ -38,7 +38,34 @@ type Row struct {
 	Pools int
 	// Full reports a closed conduit flowing full.
 	Full bool
+	// Flags are short quality notes on the row (see the Flag constants).
+	Flags []string
 }
+
+// Row quality flags.
+const (
+	// FlagAboveEnd: the stage is above an end of the section, which was
+	// extended with a vertical wall.
+	FlagAboveEnd = "above_end"
+	// FlagPools: the water stands in more than one separate pool and all
+	// were counted.
+	FlagPools = "pools"
+	// FlagNearCritical: Froude number above NearCriticalFroude; a Manning
+	// rating is doubtful where the flow is near critical.
+	FlagNearCritical = "near_critical"
+	// FlagSupercritical: Froude number above 1.
+	FlagSupercritical = "supercritical"
+	// FlagConveyanceDrop: conveyance is lower than at a lower stage of the
+	// same table, a sign that the subdivision does not suit the section
+	// (Chow, 1959, section 6-8).
+	FlagConveyanceDrop = "conveyance_drop"
+	// FlagFull: a closed conduit flows full.
+	FlagFull = "full"
+)
+
+// NearCriticalFroude is the Froude number above which a row is flagged as
+// near critical (common practice: 0.9).
+const NearCriticalFroude = 0.9
 
 // SubRow is one subsection's hydraulics at a stage.
 type SubRow struct {
@@ -114,6 +141,21 @@ func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 	}
 	if !math.IsNaN(r.HydraulicRadius) {
 		r.ShearStress = u.UnitWeight() * r.HydraulicRadius * s
+	}
+	if r.ExtendedLeft > 0 || r.ExtendedRight > 0 {
+		r.Flags = append(r.Flags, FlagAboveEnd)
+	}
+	if r.Pools > 1 {
+		r.Flags = append(r.Flags, FlagPools)
+	}
+	switch {
+	case r.Froude > 1:
+		r.Flags = append(r.Flags, FlagSupercritical)
+	case r.Froude > NearCriticalFroude:
+		r.Flags = append(r.Flags, FlagNearCritical)
+	}
+	if r.Full {
+		r.Flags = append(r.Flags, FlagFull)
 	}
 	return r, nil
 }

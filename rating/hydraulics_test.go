@@ -185,3 +185,32 @@ func TestDefaultStages(t *testing.T) {
 		}
 	}
 }
+
+// TestConveyanceDropFlag checks the flag on the classic case of a compound
+// section rated without subdivision: just above bankfull the wetted
+// perimeter jumps while the area barely grows, so conveyance falls
+// (Chow, 1959, section 6-8).
+func TestConveyanceDropFlag(t *testing.T) {
+	p := compile(t, subdivide.Section{
+		Points: subdivide.XZ(0, 4, 0, 2, 100, 2, 100, 0, 110, 0, 110, 2, 210, 2, 210, 4),
+		N:      []float64{0.04, 0.04, 0.04, 0.04, 0.04, 0.04, 0.04},
+	})
+	tab, err := Compute(p, []float64{1.9, 2.0, 2.05, 2.1, 3.5}, Options{Slope: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	has := func(r Row, f string) bool {
+		for _, g := range r.Flags {
+			if g == f {
+				return true
+			}
+		}
+		return false
+	}
+	if !has(tab.Rows[2], FlagConveyanceDrop) || has(tab.Rows[1], FlagConveyanceDrop) || has(tab.Rows[4], FlagConveyanceDrop) {
+		t.Errorf("flags %v %v %v", tab.Rows[1].Flags, tab.Rows[2].Flags, tab.Rows[4].Flags)
+	}
+	if len(tab.Warnings) == 0 {
+		t.Error("no warning about the conveyance drop")
+	}
+}

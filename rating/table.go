@@ -154,6 +154,10 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 		maxStage = math.Max(maxStage, h)
 		t.Rows = append(t.Rows, r)
 	}
+	if n := flagConveyanceDrops(t.Rows); n > 0 {
+		t.Warnings = append(t.Warnings, fmt.Sprintf(
+			"conveyance falls as the stage rises at %d stage(s) (flagged %s): the subdivision may not suit the section; check bank stations and n", n, FlagConveyanceDrop))
+	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	if pools > 1 && !opt.Geometry.Connected {
 		t.Warnings = append(t.Warnings, fmt.Sprintf(
@@ -188,4 +192,29 @@ func SortedStages(stages []float64) []float64 {
 		}
 	}
 	return out[:j]
+}
+
+// ConveyanceDropTolerance is the relative fall in conveyance below the
+// highest conveyance at any lower stage that is flagged; smaller falls are
+// round-off.
+const ConveyanceDropTolerance = 1e-9
+
+// flagConveyanceDrops flags rows whose conveyance is below that of a lower
+// stage, visiting rows in stage order; it returns how many were flagged.
+func flagConveyanceDrops(rows []Row) int {
+	idx := make([]int, len(rows))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return rows[idx[a]].Stage < rows[idx[b]].Stage })
+	best, n := 0.0, 0
+	for _, i := range idx {
+		k := rows[i].Conveyance
+		if k < best*(1-ConveyanceDropTolerance) {
+			rows[i].Flags = append(rows[i].Flags, FlagConveyanceDrop)
+			n++
+		}
+		best = math.Max(best, k)
+	}
+	return n
 }

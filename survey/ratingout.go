@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"strings"
 
 	"wetline/rating"
 )
@@ -42,6 +43,10 @@ func regionTag(r string) string {
 	return "channel"
 }
 
+// lengthColumn marks the columns of rowValues that hold lengths:
+// stage, depth, wetted perimeter, top width, hydraulic radius and depth.
+var lengthColumn = map[int]bool{0: true, 1: true, 3: true, 4: true, 5: true, 11: true}
+
 // rowValues returns a row's values in column order.
 func rowValues(r rating.Row) []float64 {
 	v := []float64{r.Stage, r.Depth, r.Area, r.WettedPerimeter, r.TopWidth, r.HydraulicRadius,
@@ -53,9 +58,8 @@ func rowValues(r rating.Row) []float64 {
 	return v
 }
 
-// FormatFloat writes v with up to 9 significant digits (enough for a
-// stage of 5 digits before the point to the millimetre or 0.001 ft, while
-// hiding binary round-off), and "" for NaN or ±Inf (an undefined value).
+// FormatFloat writes v with 6 significant digits, and "" for NaN or ±Inf
+// (an undefined value).
 func FormatFloat(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
@@ -63,7 +67,25 @@ func FormatFloat(v float64) string {
 	if v == 0 {
 		return "0"
 	}
-	return strconv.FormatFloat(v, 'g', 9, 64)
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// LengthDecimals is the number of decimals written for stages, depths and
+// other lengths: 0.1 mm or 0.0001 ft, finer than any survey.
+const LengthDecimals = 4
+
+// FormatLength writes a length (stage, depth, width) with LengthDecimals
+// decimals, trailing zeros dropped, and "" when undefined.
+func FormatLength(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	s := strconv.FormatFloat(v, 'f', LengthDecimals, 64)
+	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	if s == "-0" {
+		s = "0"
+	}
+	return s
 }
 
 // WriteRatingCSV writes a rating table as CSV: a header row of column names
@@ -77,13 +99,19 @@ func WriteRatingCSV(w io.Writer, t rating.Table) error {
 	for i := range t.Subsections {
 		cols = append(cols, SubsectionColumn(t, i))
 	}
+	cols = append(cols, "flags")
 	writeRecord(bw, cols)
 	rec := make([]string, 0, len(cols))
 	for _, r := range t.Rows {
 		rec = rec[:0]
-		for _, v := range rowValues(r) {
-			rec = append(rec, FormatFloat(v))
+		for i, v := range rowValues(r) {
+			if lengthColumn[i] {
+				rec = append(rec, FormatLength(v))
+			} else {
+				rec = append(rec, FormatFloat(v))
+			}
 		}
+		rec = append(rec, strings.Join(r.Flags, " "))
 		writeRecord(bw, rec)
 	}
 	return bw.Flush()
@@ -140,6 +168,7 @@ type jsonRow struct {
 	Beta            Float     `json:"beta"`
 	ShearStress     Float     `json:"shear_stress"`
 	Subsections     []jsonSub `json:"subsections"`
+	Flags           []string  `json:"flags"`
 }
 
 // UnitNames lists the unit of each quantity for a report header.
@@ -164,6 +193,10 @@ func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
 			Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
 			Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
 			Subsections: make([]jsonSub, len(r.Subs)),
+			Flags:       r.Flags,
+		}
+		if jr.Flags == nil {
+			jr.Flags = []string{}
 		}
 		for j, s := range r.Subs {
 			jr.Subsections[j] = jsonSub{
@@ -188,4 +221,52 @@ func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(out)
+}
+
+// WriteRatingText writes a rating table as aligned columns for reading on a
+// console: a title, the units, the main columns, the warnings and the
+// caution.
+func WriteRatingText(w io.Writer, t rating.Table, warnings []string) error {
+	u := t.Units
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "Rating of %s at friction slope %g (%s units: stage and lengths %s, area %s, discharge %s)\n\n",
+		t.Name, t.Slope, u, u.Length(), u.Area(), u.Discharge())
+	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
+	units := []string{u.Length(), u.Length(), u.Area(), u.Length(), u.Length(), u.Length(), u.Conveyance(), u.Discharge(), u.Velocity(), "", ""}
+	for i := range head {
+		fmt.Fprintf(bw, "%11s", head[i])
+	}
+	bw.WriteString("  flags\n")
+	for i := range units {
+		fmt.Fprintf(bw, "%11s", units[i])
+	}
+	bw.WriteByte('\n')
+	for _, r := range t.Rows {
+		for i, v := range rowValues(r)[:len(head)] {
+			s := "-"
+			switch {
+			case math.IsNaN(v) || math.IsInf(v, 0):
+			case i <= 1:
+				s = strconv.FormatFloat(v, 'f', 3, 64)
+			case i == 9 || i == 10:
+				s = strconv.FormatFloat(v, 'f', 3, 64)
+			default:
+				s = strconv.FormatFloat(v, 'g', 4, 64)
+				if f, err := strconv.ParseFloat(s, 64); err == nil && math.Abs(f) >= 1 && math.Abs(f) < 1e7 {
+					s = strconv.FormatFloat(f, 'f', -1, 64)
+				}
+			}
+			fmt.Fprintf(bw, "%11s", s)
+		}
+		if len(r.Flags) > 0 {
+			fmt.Fprintf(bw, "  %s", strings.Join(r.Flags, " "))
+		}
+		bw.WriteByte('\n')
+	}
+	bw.WriteByte('\n')
+	for _, s := range warnings {
+		fmt.Fprintln(bw, "warning: "+s)
+	}
+	fmt.Fprintln(bw, "caution: "+Caution)
+	return bw.Flush()
 }

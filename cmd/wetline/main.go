@@ -159,14 +159,26 @@ func printFlags(fs *pflag.FlagSet, w io.Writer) {
 		if f.Shorthand != "" {
 			name = "-" + f.Shorthand + ", " + name
 		}
-		typ := f.Value.Type()
-		if typ != "bool" {
-			name += " " + strings.ToUpper(typ)
+		if typ := f.Value.Type(); typ != "bool" {
+			name += " " + argName(typ)
 		}
 		def := ""
-		if f.DefValue != "" && f.DefValue != "false" && f.DefValue != "0" && f.DefValue != "[]" {
+		switch f.DefValue {
+		case "", "false", "0", "[]", "NaN":
+		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
-		fmt.Fprintf(w, "  %-28s %s%s\n", name, f.Usage, def)
+		fmt.Fprintf(w, "  %-24s %s%s\n", name, f.Usage, def)
 	})
+}
+
+// argName names a flag's argument in help by its type.
+func argName(typ string) string {
+	switch typ {
+	case "float64", "int", "int64", "uint64":
+		return "NUM"
+	case "float64Slice":
+		return "LIST"
+	}
+	return "TEXT"
 }

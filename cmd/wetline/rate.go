@@ -20,7 +20,7 @@ type rateFlags struct {
 	format, output string
 }
 
-const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE]"
+const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -31,7 +31,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
-	fs.StringVar(&f.format, "format", "", "output format: csv or json (default: from the -o extension, else csv)")
+	fs.StringVar(&f.format, "format", "", "output format: csv, json or text (aligned columns to read on screen); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
@@ -42,7 +42,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	if !(f.slope > 0) || math.IsInf(f.slope, 0) {
 		return usagef("rate: --slope S (a positive friction slope) is required")
 	}
-	format, err := outputFormat(f.format, f.output, "csv", "json")
+	format, err := outputFormat(f.format, f.output, "csv", "json", "text")
 	if err != nil {
 		return err
 	}
@@ -65,8 +65,11 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	}
 	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
 	write := func(w io.Writer) error {
-		if format == "json" {
+		switch format {
+		case "json":
 			return survey.WriteRatingJSON(w, t, warnings)
+		case "text":
+			return survey.WriteRatingText(w, t, warnings)
 		}
 		return survey.WriteRatingCSV(w, t)
 	}
@@ -74,7 +77,9 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
-		printWarnings(e.stderr, warnings)
+		if format != "text" {
+			printWarnings(e.stderr, warnings)
+		}
 		return nil
 	}
 	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
