@@ -1,0 +1,78 @@
+package survey
+
+import (
+	"errors"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// writeBook writes a workbook with the given sheets of rows.
+func writeBook(t *testing.T, sheets map[string][][]any, order []string) string {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	for i, name := range order {
+		if i == 0 {
+			f.SetSheetName("Sheet1", name)
+		} else if _, err := f.NewSheet(name); err != nil {
+			t.Fatal(err)
+		}
+		for r, row := range sheets[name] {
+			cell, _ := excelize.CoordinatesToCellName(1, r+1)
+			if err := f.SetSheetRow(name, cell, &row); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	path := filepath.Join(t.TempDir(), "field.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+func TestReadSectionWorkbook(t *testing.T) {
+	path := writeBook(t, map[string][][]any{
+		"XS-1": {{"station", "elevation"}, {0, 1}, {1, 0}},
+		"XS-2": {
+			{"Station (m)", "Elevation (m)", "n", "Mark", "Extra"},
+			{0.0, 3.0, 0.05, nil, "x"},
+			{2.0, 1.0, nil, "bank"},
+			{},               // a blank row in the middle
+			{"4", "0", 0.03}, // numbers stored as text
+			{6.0, 1.0, nil, "bank"},
+			{8.0, 3.0},
+		},
+	}, []string{"XS-1", "XS-2"})
+	sv, err := ReadSection(path, "XS-2", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := sv.Section
+	if len(s.Points) != 5 || s.Points[2].Station != 4 || !s.HasBanks || s.RightBank != 6 || s.N[2] != 0.03 || s.Name != "XS-2" {
+		t.Errorf("section %+v", s)
+	}
+	if sv.Rows[2] != 5 {
+		t.Errorf("row of the third point = %d, want 5 (after the blank row)", sv.Rows[2])
+	}
+	first, err := ReadSection(path, "", SectionOptions{})
+	if err != nil || first.Section.Name != "XS-1" {
+		t.Errorf("default sheet: %v %+v", err, first.Section)
+	}
+}
+
+func TestReadSectionWorkbookErrors(t *testing.T) {
+	path := writeBook(t, map[string][][]any{
+		"XS-2": {{"station", "elevation", "n"}, {0, 1, 0.03}, {1, "1,5"}, {2, 1}},
+	}, []string{"XS-2"})
+	_, err := ReadSection(path, "XS-2", SectionOptions{})
+	if err == nil || !strings.Contains(err.Error(), "field.xlsx['XS-2']!B3: elevation \"1,5\": decimal comma") || !errors.Is(err, ErrDecimalComma) {
+		t.Errorf("error %v", err)
+	}
+	if _, err := ReadSection(path, "XS-9", SectionOptions{}); err == nil || !strings.Contains(err.Error(), "no such sheet (sheets: XS-2)") {
+		t.Errorf("missing sheet: %v", err)
+	}
+}
