@@ -91,7 +91,7 @@ var (
 	ErrNotFinite    = errors.New("value is not a finite number")
 	ErrOverhang     = errors.New("station decreases (an overhang): stations must not decrease left to right")
 	ErrZeroWidth    = errors.New("all points are at one station: the section has no width")
-	ErrBadN         = errors.New("Manning's n must be a positive number")
+	ErrBadN         = errors.New("roughness (Manning's n) must be a positive number")
 	ErrNLength      = errors.New("one n per segment is needed (points minus one)")
 	ErrBanks        = errors.New("bank stations must lie within the section, left before right")
 	ErrAboveEnds    = errors.New("stage is above an end of the section")

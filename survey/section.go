@@ -114,11 +114,11 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 			case err != nil:
 				errs = append(errs, err.(*ParseError))
 			case ok && !(n > 0):
-				add(rec, cn, fmt.Errorf("Manning's n %w", ErrNotPositive))
+				add(rec, cn, fmt.Errorf("roughness %w", ErrNotPositive))
 			case ok:
 				nCur = n
 				if n > HighN {
-					sv.Warnings = append(sv.Warnings, t.At(rec, cn, fmt.Errorf("Manning's n %g is above %.2f: check it", n, HighN)).Error())
+					sv.Warnings = append(sv.Warnings, t.At(rec, cn, fmt.Errorf("roughness %g is above %.2f: check it", n, HighN)).Error())
 				}
 			}
 		}

@@ -43,7 +43,7 @@ func TestParseSectionErrors(t *testing.T) {
 		{"blank elevation", "station,elevation\n0,1\n1,\n", `xs.csv:3:2`, ErrNotNumber},
 		{"one point", "station,elevation\n0,1\n", `xs.csv:1: a section needs at least two points`, ErrTooFew},
 		{"missing column", "station,height\n0,1\n1,0\n", `xs.csv:1: elevation: missing column`, ErrMissingColumn},
-		{"n zero", "station,elevation,n\n0,1,0\n1,0,0.03\n", `xs.csv:2:3: n "0": Manning's n must be a positive number`, ErrNotPositive},
+		{"n zero", "station,elevation,n\n0,1,0\n1,0,0.03\n", `xs.csv:2:3: n "0": roughness must be a positive number`, ErrNotPositive},
 		{"n negative", "station,elevation,n\n0,1,0.03\n1,0,-0.03\n2,1,\n", `xs.csv:3:3`, ErrNotPositive},
 		{"overhang", "station,elevation\n0,1\n2,0\n1,1\n", `xs.csv:4:1: station "1": station is less than the one before`, ErrOverhang},
 		{"three banks", "station,elevation,mark\n0,1,bank\n1,0,bank\n2,1,bank\n", `xs.csv:4:3`, ErrBankMarks},
