@@ -35,9 +35,12 @@ type Conduit struct {
 	Invert float64
 	// N is Manning's n of the barrel.
 	N float64
-	// Name identifies the conduit in reports.
-	Name string
+	// Label identifies the conduit in reports (see Name).
+	Label string
 }
+
+// Name returns the conduit's label.
+func (c *Conduit) Name() string { return c.Label }
 
 // Bottom returns the invert elevation.
 func (c *Conduit) Bottom() float64 { return c.Invert }
@@ -74,7 +77,7 @@ func (c *Conduit) At(stage float64, _ Options) (Wetted, error) {
 		return w, nil
 	}
 	if y > d*(1+CrownTolerance) {
-		return w, fmt.Errorf("stage %g is %g above the crown at %g: %w", stage, y-d, c.Top(), ErrAboveCrown)
+		return w, fmt.Errorf("stage %g is %.4g above the crown at %g: %w", stage, y-d, c.Top(), ErrAboveCrown)
 	}
 	r := d / 2
 	w.Pools = 1

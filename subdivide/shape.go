@@ -446,7 +446,7 @@ func (s Shape) Build(n [3]float64) (Geometry, error) {
 		return nil, err
 	}
 	if s.Kind == Circle {
-		return &Conduit{Diameter: s.Diameter, Invert: s.Invert, N: n[Channel], Name: s.String()}, nil
+		return &Conduit{Diameter: s.Diameter, Invert: s.Invert, N: n[Channel], Label: s.String()}, nil
 	}
 	sec := s.sectionAt(s.NominalHeight(), n)
 	p, err := Compile(sec)
