@@ -6,8 +6,8 @@ import (
 )
 
 // CrownTolerance is the fraction of the diameter by which a stage may lie
-// above a conduit's crown and still be taken as flowing full (round-off in
-// a stage computed as invert + diameter).
+// above or below a conduit's crown and still be taken as flowing full
+// (round-off in a stage computed as invert + diameter).
 const CrownTolerance = 1e-9
 
 // Conduit is a circular closed conduit (a pipe or culvert barrel) with
@@ -81,7 +81,7 @@ func (c *Conduit) At(stage float64, _ Options) (Wetted, error) {
 	}
 	r := d / 2
 	w.Pools = 1
-	if y >= d {
+	if y >= d*(1-CrownTolerance) {
 		w.Full = true
 		w.Area = math.Pi * r * r
 		w.WettedPerimeter = math.Pi * d
