@@ -56,7 +56,7 @@ func TestParseComposite(t *testing.T) {
 func TestCompositeGeometry(t *testing.T) {
 	sec := subdivide.Section{
 		Name:   "lined",
-		Points: []subdivide.Point{{0, 3}, {3, 0}, {7, 0}, {10, 3}},
+		Points: []subdivide.Point{{Station: 0, Elevation: 3}, {Station: 3, Elevation: 0}, {Station: 7, Elevation: 0}, {Station: 10, Elevation: 3}},
 		N:      []float64{0.04, 0.015, 0.04},
 	}
 	p, err := subdivide.Compile(sec)
