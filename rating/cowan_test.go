@@ -18,10 +18,12 @@ func TestCowan(t *testing.T) {
 		// minor obstruction 0.005-0.015, small vegetation 0.002-0.010, m 1.
 		{CowanInput{Base: "gravel", Irregularity: "minor", Obstruction: "minor", Vegetation: "small"},
 			0.036, (0.0315 + 0.003 + 0.010 + 0.006), 0.065},
-		// Sand 0.5 mm 0.022, smooth, appreciable meandering m = 1.15.
-		{CowanInput{Base: "sand-0.5", Meander: "appreciable"}, 0.022 * 1.15, 0.022 * 1.15, 0.022 * 1.15},
-		// Flood plain: firm soil 0.025-0.032, extreme vegetation 0.100-0.200, m = 1.0.
-		{CowanInput{Base: "firm-soil", Vegetation: "extreme", Floodplain: true}, 0.125, 0.1785, 0.232},
+		// Sand 0.5 mm 0.022, smooth, negligible obstruction 0-0.004 (the
+		// first row, taken by default), appreciable meandering m = 1.15.
+		{CowanInput{Base: "sand-0.5", Meander: "appreciable"}, 0.022 * 1.15, 0.024 * 1.15, 0.026 * 1.15},
+		// Flood plain: firm soil 0.025-0.032, negligible obstruction
+		// 0-0.004, extreme vegetation 0.100-0.200, m = 1.0.
+		{CowanInput{Base: "firm-soil", Vegetation: "extreme", Floodplain: true}, 0.125, 0.0285 + 0.002 + 0.15, 0.236},
 	}
 	const tol = 1e-12
 	for _, tt := range tests {
