@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 
 	"wetline/rating"
 	"wetline/survey"
@@ -299,4 +300,24 @@ func compositeWords(c rating.Composite) string {
 		return "composite by region (Lotter, sum of conveyances)"
 	}
 	return "split at every n change"
+}
+
+// Demo culvert: the invented Mill Lane culvert beside the gauge.
+const (
+	demoCulvert      = "circle:diameter=1.2"
+	demoCulvertN     = "0.013"
+	demoCulvertSlope = 0.003 // m/m
+	demoCulvertFlow  = 1.5   // m³/s
+)
+
+// demoSolve writes the normal and critical depths of the demo culvert.
+func demoSolve(ctx context.Context, e *env, dir string) error {
+	name := "mill-lane-culvert-solve.txt"
+	args := []string{"--shape", demoCulvert, "--n", demoCulvertN, "--slope", fmt.Sprint(demoCulvertSlope),
+		"--discharge", fmt.Sprint(demoCulvertFlow), "-o", filepath.Join(dir, name)}
+	if err := runSolve(ctx, &env{stdout: io.Discard, stderr: io.Discard}, args); err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stdout, "  %-28s %s\n", name, "normal and critical depth in the 1.2 m road culvert")
+	return nil
 }
