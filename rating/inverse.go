@@ -25,6 +25,12 @@ const ScanSteps = 200
 // while looking for a stage that carries a discharge or holds an area.
 const MaxSearchDoublings = 6
 
+// JumpFraction decides whether a bracketed sign change is a jump: when,
+// with the bracket narrowed to the resolution of float64, the function
+// on both sides is still further from zero than this fraction of its
+// values at the ends of the monotonic piece, it jumped past zero.
+const JumpFraction = 1e-6
+
 // CriticalBand is the half-width of the band of Froude numbers around 1
 // reported as critical flow rather than sub- or supercritical (common
 // practice: flow within a few tenths of a percent of critical is unstable
@@ -48,6 +54,11 @@ type Root struct {
 	// falling branch, such as a conduit between its peak discharge near
 	// 0.94 D and full flow.
 	Rising bool
+	// Jump reports a stage where the quantity jumps past the target
+	// instead of passing through it: ground lying level exactly at the
+	// stage (a flat floodplain) is wetted all at once. Stage is then the
+	// stage of the jump.
+	Jump bool
 }
 
 // Branch names the root's branch: "rising" or "falling".
@@ -162,11 +173,11 @@ func findRoots(f stageFunc, lo, hi float64) ([]Root, error) {
 		}
 	}
 	var roots []Root
-	add := func(h float64, rising bool) {
+	add := func(h float64, rising, jump bool) {
 		if n := len(roots); n > 0 && roots[n-1].Stage == h {
 			return
 		}
-		roots = append(roots, Root{Stage: h, Depth: h - lo, Rising: rising})
+		roots = append(roots, Root{Stage: h, Depth: h - lo, Rising: rising, Jump: jump})
 	}
 	for i := 0; i+1 < len(all); i++ {
 		a, b := all[i], all[i+1]
@@ -175,26 +186,29 @@ func findRoots(f stageFunc, lo, hi float64) ([]Root, error) {
 		}
 		switch {
 		case a.v == 0:
-			add(a.h, b.v > a.v)
+			add(a.h, b.v > a.v, false)
 		case b.v == 0:
 			// Taken as the left end of the next piece, or below at the end.
 		case (a.v < 0) != (b.v < 0) && !math.IsNaN(a.v) && !math.IsNaN(b.v):
-			h, err := bisect(f, a.h, b.h, a.v)
+			h, left, right, err := bisect(f, a.h, b.h, a.v, b.v)
 			if err != nil {
 				return nil, err
 			}
-			add(h, b.v > a.v)
+			scale := math.Abs(a.v) + math.Abs(b.v)
+			jump := math.Min(math.Abs(left), math.Abs(right)) > JumpFraction*scale
+			add(h, b.v > a.v, jump)
 		}
 	}
 	if last := all[len(all)-1]; last.v == 0 {
-		add(last.h, len(all) > 1 && last.v > all[len(all)-2].v)
+		add(last.h, len(all) > 1 && last.v > all[len(all)-2].v, false)
 	}
 	return roots, nil
 }
 
-// bisect refines a root of f bracketed by [a, b] (fa = f(a), f(b) of the
-// other sign) to the resolution of float64.
-func bisect(f stageFunc, a, b, fa float64) (float64, error) {
+// bisect refines a root of f bracketed by [a, b] (fa = f(a), fb = f(b) of
+// the other sign) to the resolution of float64. It returns the root and
+// the values of f at the ends of the final bracket.
+func bisect(f stageFunc, a, b, fa, fb float64) (h, left, right float64, err error) {
 	for i := 0; i < 200; i++ {
 		m := a + (b-a)/2
 		if !(m > a && m < b) {
@@ -202,18 +216,22 @@ func bisect(f stageFunc, a, b, fa float64) (float64, error) {
 		}
 		fm, err := f(m)
 		if err != nil {
-			return m, err
+			return m, fa, fb, err
 		}
 		if fm == 0 {
-			return m, nil
+			return m, 0, 0, nil
 		}
 		if (fm < 0) == (fa < 0) {
 			a, fa = m, fm
 		} else {
-			b = m
+			b, fb = m, fm
 		}
 	}
-	return a + (b-a)/2, nil
+	// The end nearer zero is the root (a jump lies at its far side).
+	if math.Abs(fb) < math.Abs(fa) {
+		return b, fa, fb, nil
+	}
+	return a, fa, fb, nil
 }
 
 // golden finds the maximum (or minimum) of f on [a, b] by golden-section

@@ -384,3 +384,81 @@ func TestSolveRegime(t *testing.T) {
 		}
 	}
 }
+
+// TestUnsubdividedCompoundRoots: a compound ground line without banks and
+// with one n is a single subsection; just above bankfull the wetted
+// perimeter jumps faster than the area, so discharge falls before it rises
+// again (the known artefact of not subdividing a compound section). Every
+// crossing is returned, agreeing with a brute-force scan of the engine's
+// own forward computation; the smooth ones carry the discharge and the
+// drop at the level floodplain is marked as a jump.
+func TestUnsubdividedCompoundRoots(t *testing.T) {
+	sec := subdivide.Section{Name: "two-stage", Points: []subdivide.Point{
+		{Station: 0, Elevation: 4}, {Station: 1, Elevation: 2}, {Station: 61, Elevation: 2}, {Station: 62, Elevation: 0},
+		{Station: 66, Elevation: 0}, {Station: 67, Elevation: 2}, {Station: 127, Elevation: 2}, {Station: 128, Elevation: 4},
+	}}
+	sec.NByRegion[subdivide.Channel] = 0.03
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := Options{Slope: 0.001}
+	bank, err := Compute(p, []float64{2}, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	q := 0.9 * bank.Rows[0].Discharge
+	roots, err := NormalStages(p, q, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const m = 20000
+	stages := make([]float64, m+1)
+	for i := range stages {
+		stages[i] = 4 * float64(i) / m
+	}
+	tab, _ := Compute(p, stages, opt)
+	var want []float64
+	for i := 1; i <= m; i++ {
+		if (tab.Rows[i].Discharge < q) != (tab.Rows[i-1].Discharge < q) {
+			want = append(want, stages[i])
+		}
+	}
+	if len(want) != 3 || len(roots) != 3 {
+		t.Fatalf("roots %+v, brute force %v: want three", roots, want)
+	}
+	for i, r := range roots {
+		// The middle one is the jump at the level floodplain, stage 2.
+		if math.Abs(r.Stage-want[i]) > 4.0/m || r.Rising != (i != 1) || r.Jump != (i == 1) {
+			t.Errorf("root %d: %+v, brute force %g", i, r, want[i])
+		}
+		if r.Jump {
+			continue
+		}
+		rt, _ := Compute(p, []float64{r.Stage}, opt)
+		if math.Abs(rt.Rows[0].Discharge-q) > 1e-9*q {
+			t.Errorf("root %g carries %g, want %g", r.Stage, rt.Rows[0].Discharge, q)
+		}
+	}
+}
+
+func BenchmarkNormalStagesSurvey(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	g, _ := randomSection(rng, 3)
+	opt := Options{Slope: 0.001}
+	tab, _ := Compute(g, []float64{(g.Bottom() + g.Top()) / 2}, opt)
+	for b.Loop() {
+		if _, err := NormalStages(g, tab.Rows[0].Discharge, opt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkSolveConduit(b *testing.B) {
+	g := mustShape(b, "circle:diameter=0.6", 0.013)
+	for b.Loop() {
+		if _, err := Solve(g, 0.45, Options{Slope: 0.005}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

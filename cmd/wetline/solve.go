@@ -191,6 +191,7 @@ func solutionJSON(s rating.Solution) any {
 		Froude       survey.Float `json:"froude"`
 		Regime       *string      `json:"regime"`
 		Full         bool         `json:"full"`
+		Jump         bool         `json:"jump"`
 	}
 	type critical struct {
 		Stage          survey.Float `json:"stage"`
@@ -198,6 +199,7 @@ func solutionJSON(s rating.Solution) any {
 		Alpha          survey.Float `json:"alpha"`
 		SpecificEnergy survey.Float `json:"specific_energy"`
 		Energy         string       `json:"specific_energy_extremum"`
+		Jump           bool         `json:"jump"`
 	}
 	out := struct {
 		NormalStage    survey.Float      `json:"normal_stage"`
@@ -242,6 +244,7 @@ func solutionJSON(s rating.Solution) any {
 			Stage: survey.Float(n.Stage), Depth: survey.Float(n.Depth), Branch: n.Branch(),
 			Discharge: survey.Float(n.Row.Discharge), Area: survey.Float(n.Row.Area), TopWidth: survey.Float(n.Row.TopWidth),
 			MeanVelocity: survey.Float(n.Row.MeanVelocity), Froude: survey.Float(n.Row.Froude), Regime: regime, Full: n.Row.Full,
+			Jump: n.Jump,
 		})
 		if i == 0 {
 			out.NormalStage, out.NormalDepth, out.Froude, out.Regime = survey.Float(n.Stage), survey.Float(n.Depth), survey.Float(n.Row.Froude), regime
@@ -252,7 +255,7 @@ func solutionJSON(s rating.Solution) any {
 		out.CriticalDepths = append(out.CriticalDepths, survey.Float(c.Depth))
 		out.Critical = append(out.Critical, critical{
 			Stage: survey.Float(c.Stage), Depth: survey.Float(c.Depth), Alpha: survey.Float(c.Alpha),
-			SpecificEnergy: survey.Float(c.Energy), Energy: energyExtremum(c),
+			SpecificEnergy: survey.Float(c.Energy), Energy: energyExtremum(c), Jump: c.Jump,
 		})
 	}
 	return out
@@ -265,6 +268,11 @@ func writeSolutionText(w io.Writer, s rating.Solution) error {
 	fmt.Fprintf(w, "section %s (%s units), discharge %g %s, roughness %s\n", s.Name, u, s.Discharge, u.Discharge(), compositeWords(s.Composite))
 	if s.Slope > 0 {
 		for _, n := range s.Normal {
+			if n.Jump {
+				fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g: discharge drops past %g %s here as level ground is wetted all at once\n",
+					n.Stage, L, n.Depth, L, s.Slope, s.Discharge, u.Discharge())
+				continue
+			}
 			fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g, %s branch: area %.4g %s, mean velocity %.4g %s, ",
 				n.Stage, L, n.Depth, L, s.Slope, n.Branch(), n.Row.Area, u.Area(), n.Row.MeanVelocity, u.Velocity())
 			if n.Row.Full {
@@ -277,8 +285,12 @@ func writeSolutionText(w io.Writer, s rating.Solution) error {
 		fmt.Fprintln(w, "normal stage: give --slope to compute it")
 	}
 	for _, c := range s.Critical {
-		fmt.Fprintf(w, "critical stage %.4f %s (depth %.4f %s): alpha %.3f, specific energy %.4f %s (a %s)\n",
-			c.Stage, L, c.Depth, L, c.Alpha, c.Energy, L, energyExtremum(c))
+		jump := ""
+		if c.Jump {
+			jump = "; the Froude number jumps through 1 here as level ground is wetted all at once"
+		}
+		fmt.Fprintf(w, "critical stage %.4f %s (depth %.4f %s): alpha %.3f, specific energy %.4f %s (a %s%s)\n",
+			c.Stage, L, c.Depth, L, c.Alpha, c.Energy, L, energyExtremum(c), jump)
 	}
 	fmt.Fprintf(w, "least specific energy %.4f %s at stage %.4f %s\n", s.MinEnergy.Energy, L, s.MinEnergy.Stage, L)
 	if s.Closed && s.Slope > 0 {
