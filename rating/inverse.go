@@ -114,7 +114,8 @@ func (s solver) closed() (bool, error) {
 
 // searchRange returns the stage range to search: from the bottom to the
 // crown of a closed conduit, else to the top of the section, doubled in
-// depth (at most MaxSearchDoublings times, never with NoExtend) until
+// depth (at most MaxSearchDoublings times, and never where the geometry
+// refuses the stage, as a survey does with Options.NoExtend) until
 // reached(hi) holds.
 func (s solver) searchRange(reached func(h float64) (bool, error)) (lo, hi float64, err error) {
 	lo, hi = s.g.Bottom(), s.g.Top()
@@ -125,13 +126,16 @@ func (s solver) searchRange(reached func(h float64) (bool, error)) (lo, hi float
 	if !(hi > lo) {
 		hi = lo + 1
 	}
-	for k := 0; ; k++ {
-		ok, err := reached(hi)
-		if err != nil || ok || k == MaxSearchDoublings || s.opt.Geometry.NoExtend {
-			return lo, hi, err
+	ok, err := reached(hi)
+	for k := 0; err == nil && !ok && k < MaxSearchDoublings; k++ {
+		next := lo + 2*(hi-lo)
+		ok, err = reached(next)
+		if errors.Is(err, subdivide.ErrAboveEnds) {
+			return lo, hi, nil
 		}
-		hi = lo + 2*(hi-lo)
+		hi = next
 	}
+	return lo, hi, err
 }
 
 // findRoots returns every stage in [lo, hi] where f is zero, ascending.

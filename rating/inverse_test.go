@@ -462,3 +462,27 @@ func BenchmarkSolveConduit(b *testing.B) {
 		}
 	}
 }
+
+// TestSearchAboveTop: an open-ended built shape is searched above its
+// nominal top even with NoExtend (its sides go on exactly), while a survey
+// with NoExtend is not.
+func TestSearchAboveTop(t *testing.T) {
+	g := mustShape(t, "trapezoid:bottom=1,side=1", 0.03) // nominal top 1 m
+	opt := Options{Slope: 0.001, Geometry: subdivide.Options{NoExtend: true}}
+	roots, err := NormalStages(g, 50, opt)
+	if err != nil || len(roots) != 1 || !(roots[0].Depth > 1) {
+		t.Fatalf("open-ended trapezoid: %+v, %v", roots, err)
+	}
+	// Closed form check of Manning's equation (Chow 1959, eq. 5-7 and table 2-1).
+	y := roots[0].Depth
+	a, p := (1+y)*y, 1+2*y*math.Sqrt2
+	if q := a * math.Pow(a/p, 2.0/3) / 0.03 * math.Sqrt(0.001); math.Abs(q-50) > 1e-8*50 {
+		t.Errorf("depth %g carries %g", y, q)
+	}
+	sec := subdivide.Section{Points: []subdivide.Point{{Station: 0, Elevation: 1}, {Station: 1, Elevation: 0}, {Station: 2, Elevation: 0}, {Station: 3, Elevation: 1}},
+		N: []float64{0.03, 0.03, 0.03}}
+	p2, _ := subdivide.Compile(sec)
+	if _, err := NormalStages(p2, 50, opt); err == nil {
+		t.Error("survey with NoExtend: a stage above its ends was returned")
+	}
+}
