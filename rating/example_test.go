@@ -27,3 +27,35 @@ func ExampleCompute() {
 	// stage 1.5 m: Q=8.13 m3/s alpha=1.000 Fr=0.272
 	// stage 2.5 m: Q=33.36 m3/s alpha=1.738 Fr=0.330
 }
+
+// A storm pipe of 0.6 m diameter, n = 0.013, laid at 0.5 %, carrying
+// 0.25 m³/s: its normal and critical depths.
+func ExampleSolve() {
+	shape, err := subdivide.ParseShape("circle:diameter=0.6")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	g, _ := shape.Build([3]float64{0.013})
+	sol, err := rating.Solve(g, 0.25, rating.Options{Slope: 0.005})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("normal depth %.3f m (%s), Froude %.2f, %s\n", sol.Normal[0].Depth, sol.Normal[0].Branch(), sol.Normal[0].Row.Froude, sol.Normal[0].Regime)
+	fmt.Printf("critical depth %.3f m\n", sol.Critical[0].Depth)
+	fmt.Printf("full %.3f m3/s, peak %.3f m3/s at %.3f m\n", sol.FullDischarge, sol.PeakDischarge, sol.PeakStage)
+	// Output:
+	// normal depth 0.327 m (rising), Froude 0.99, subcritical
+	// critical depth 0.325 m
+	// full 0.434 m3/s, peak 0.467 m3/s at 0.563 m
+}
+
+func ExampleStageForArea() {
+	shape, _ := subdivide.ParseShape("trapezoid:bottom=3,side=2")
+	g, _ := shape.Build([3]float64{0.025})
+	r, _ := rating.StageForArea(g, 10, rating.Options{})
+	// (3 + 2y)·y = 10 gives y = 1.6085 m.
+	fmt.Printf("%.4f m\n", r.Depth)
+	// Output: 1.6085 m
+}

@@ -18,6 +18,9 @@ type Options struct {
 	Units Units
 	// Geometry controls pockets and end extension (see subdivide.Options).
 	Geometry subdivide.Options
+	// Composite selects composite roughness by region (default Split: a
+	// subsection at every n change); see CompositeGeometry.
+	Composite Composite
 }
 
 // Table is a stage–discharge rating computed from section geometry.
@@ -122,13 +125,14 @@ func finiteAll(v ...float64) bool {
 // Compute rates geometry g at each stage. Stages may come in any order; rows
 // keep that order. A stage below the lowest ground gives a dry row.
 func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error) {
+	g = CompositeGeometry(g, opt.Composite)
 	t := Table{
 		Units: opt.Units, Slope: opt.Slope,
 		Bottom: g.Bottom(), Top: g.Top(),
 		Subsections: g.Subsections(),
 		Rows:        make([]Row, 0, len(stages)),
 	}
-	if p, ok := g.(*subdivide.Profile); ok {
+	if p, ok := g.(interface{ Name() string }); ok {
 		t.Name = p.Name()
 	}
 	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {

@@ -20,7 +20,7 @@ type rateFlags struct {
 	format, output string
 }
 
-const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -36,8 +36,8 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
-	if fs.NArg() != 1 {
-		return usagef("rate: want one SURVEY file, got %d arguments", fs.NArg())
+	if fs.NArg() != 1 && !(fs.NArg() == 0 && f.shape != "") {
+		return usagef("rate: want one SURVEY file (or --shape SPEC), got %d arguments", fs.NArg())
 	}
 	if !(f.slope > 0) || math.IsInf(f.slope, 0) {
 		return usagef("rate: --slope S (a positive friction slope) is required")
@@ -61,7 +61,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	}
 	t, err := rating.Compute(l.geom, stages, rating.Options{Slope: f.slope, Units: l.units, Geometry: l.geomOpt})
 	if err != nil {
-		return fmt.Errorf("%s: %w", fs.Arg(0), err)
+		return l.fail(err)
 	}
 	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
 	write := func(w io.Writer) error {

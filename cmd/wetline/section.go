@@ -20,6 +20,8 @@ type sectionFlags struct {
 	units     string
 	connected bool
 	noExtend  bool
+	shape     string // a built shape spec instead of a survey file
+	composite string // composite roughness method
 }
 
 func (sf *sectionFlags) register(fs *pflag.FlagSet) {
@@ -29,6 +31,7 @@ func (sf *sectionFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&sf.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
 	fs.BoolVar(&sf.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
+	sf.registerShape(fs)
 }
 
 // loaded is a section ready for hydraulics.
@@ -39,6 +42,8 @@ type loaded struct {
 	geomOpt  subdivide.Options
 	inputs   []string // files read, never to be written over
 	warnings []string
+	source   string          // the survey path or the shape spec, for messages
+	shape    subdivide.Shape // the built shape, when one was given
 }
 
 // load reads the survey at path and applies the flag overrides.
@@ -47,8 +52,11 @@ func (sf *sectionFlags) load(path string) (*loaded, error) {
 	if err != nil {
 		return nil, usageError{err}
 	}
-	l := &loaded{units: u, inputs: []string{path},
+	l := &loaded{units: u, inputs: []string{path}, source: path,
 		geomOpt: subdivide.Options{Connected: sf.connected, NoExtend: sf.noExtend}}
+	if sf.shape != "" || path == "" {
+		return sf.loadShape(l, path)
+	}
 	sv, err := survey.ReadSection(path, sf.sheet, survey.SectionOptions{IgnoreBankMarks: sf.banks != ""})
 	if err != nil {
 		return nil, err
@@ -97,8 +105,7 @@ func (sf *sectionFlags) load(path string) (*loaded, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	l.geom = p
-	return l, nil
+	return sf.finish(l, p)
 }
 
 // parseFloats reads a comma-separated list of numbers from a flag value.

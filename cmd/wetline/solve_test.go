@@ -1,0 +1,113 @@
+package main
+
+import (
+	"encoding/json"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// runArgs runs the program with buffers and returns stdout, stderr and the
+// exit status.
+func runArgs(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	return runCLI(t, args...)
+}
+
+func TestSolveGolden(t *testing.T) {
+	tests := []struct {
+		name string
+		args []string
+	}{
+		{"solve-pipe.txt", []string{"solve", "--shape", "circle:diameter=0.6", "--n", "0.013", "--slope", "0.005", "--discharge", "0.45"}},
+		{"solve-trapezoid.txt", []string{"solve", "--shape", "trapezoid:bottom=3,side=2", "--n", "0.025", "--slope", "0.0008", "--discharge", "12"}},
+		{"solve-compound.txt", []string{"solve", "--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--n", "0.03", "--discharge", "20"}},
+		{"solve-area-us.txt", []string{"solve", "--shape", "trapezoid:bottom=20,side=2", "--n", "0.025", "--units", "us", "--area", "100"}},
+		{"solve-stage.txt", []string{"solve", "--shape", "rectangle:width=2", "--n", "0.015", "--stage", "0.5", "--slope", "0.001"}},
+	}
+	for _, tt := range tests {
+		out, errs, code := runArgs(t, tt.args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", tt.args, code, errs)
+		}
+		golden(t, tt.name, out)
+	}
+}
+
+// TestSolveJSONContract checks the keys promised to scripts.
+func TestSolveJSONContract(t *testing.T) {
+	out, errs, code := runArgs(t, "solve", "--shape", "trapezoid:bottom=3,side=2", "--n", "0.025", "--slope", "0.0008", "--discharge", "12", "--format", "json")
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	var v map[string]any
+	if err := json.Unmarshal([]byte(out), &v); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"normal_stage", "normal_depth", "critical_stages", "froude", "regime", "caution"} {
+		if _, ok := v[k]; !ok {
+			t.Errorf("JSON lacks %q", k)
+		}
+	}
+	if v["regime"] != "subcritical" {
+		t.Errorf("regime %v", v["regime"])
+	}
+	if cs, ok := v["critical_stages"].([]any); !ok || len(cs) != 1 {
+		t.Errorf("critical_stages %v", v["critical_stages"])
+	}
+}
+
+func TestShapeUsageErrors(t *testing.T) {
+	tests := []struct {
+		args []string
+		want string // in stderr
+		code int
+	}{
+		{[]string{"solve", "--shape", "hexagon:side=1", "--n", "0.02", "--discharge", "1"}, `kind: unknown kind "hexagon"`, 2},
+		{[]string{"rate", "--shape", "trapezoid:bottom=3", "--n", "0.02", "--slope", "0.001"}, "side: missing", 2},
+		{[]string{"rate", "--shape", "circle:diameter=0", "--n", "0.02", "--slope", "0.001"}, "diameter: must be positive", 2},
+		{[]string{"rate", "--shape", "rectangle:width=2,depth=1", "--n", "0.02", "--slope", "0.001"}, `"depth": unknown key`, 2},
+		{[]string{"rate", "--shape", "circle:diameter=0.6", "--n", "0.013", "--slope", "0.001", "--stages", "0.3,0.7"}, "above the crown", 2},
+		{[]string{"rate", "--shape", "circle:diameter=0.6", "--slope", "0.001"}, "give Manning's n with --n", 2},
+		{[]string{"solve", "--shape", "circle:diameter=0.6", "--n", "0.013", "--slope", "0.001", "--discharge", "5"}, "more than the conduit carries", 1},
+		{[]string{"solve", "--shape", "circle:diameter=0.6", "--n", "0.013"}, "give one of --discharge", 2},
+		{[]string{"solve", "--shape", "circle:diameter=0.6", "--n", "0.013", "--discharge", "1", "--composite", "average"}, "composite roughness", 2},
+		{[]string{"shape", "circle:diameter=1"}, "closed conduit", 2},
+	}
+	for _, tt := range tests {
+		_, errs, code := runArgs(t, tt.args...)
+		if code != tt.code || !strings.Contains(errs, tt.want) {
+			t.Errorf("%v: exit %d, stderr %q; want %d and %q", tt.args, code, errs, tt.code, tt.want)
+		}
+		if code == 2 && strings.Contains(tt.want, ":") && !strings.Contains(errs, "accepted:") {
+			t.Errorf("%v: the message does not list the accepted forms: %s", tt.args, errs)
+		}
+	}
+}
+
+// TestShapeSurveyRoundTrip: a shape written as a survey CSV rates exactly
+// as the shape itself at the default stages.
+func TestShapeSurveyRoundTrip(t *testing.T) {
+	dir := t.TempDir()
+	for _, spec := range []string{"trapezoid:bottom=3,left=1.5,right=2,invert=101.25", "compound:bottom=2,side=1,depth=1.5,floodplain=20,outer=3", "rectangle:width=2.5", "triangle:side=0.75"} {
+		path := filepath.Join(dir, "built.csv")
+		n := "0.03"
+		if strings.HasPrefix(spec, "compound") {
+			n = "0.06,0.035,0.05"
+		}
+		if _, errs, code := runArgs(t, "shape", spec, "--n", n, "-o", path); code != 0 {
+			t.Fatal(errs)
+		}
+		fromFile, errs, code := runArgs(t, "rate", path, "--slope", "0.001")
+		if code != 0 {
+			t.Fatal(errs)
+		}
+		fromShape, errs, code := runArgs(t, "rate", "--shape", spec, "--n", n, "--slope", "0.001")
+		if code != 0 {
+			t.Fatal(errs)
+		}
+		if fromFile != fromShape {
+			t.Errorf("%s: rating from the written survey differs:\n%s\nfrom the shape:\n%s", spec, fromFile, fromShape)
+		}
+	}
+}

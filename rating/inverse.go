@@ -1,0 +1,559 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"wetline/subdivide"
+)
+
+// DepthTolerance is the accuracy of every stage the inverse solvers
+// return, as a fraction of the depth there. The bracketed bisection runs
+// to the resolution of float64, far inside it; the constant is what tests
+// hold the solvers to.
+const DepthTolerance = 1e-6
+
+// ScanSteps is the number of equal stage steps over which the solvers look
+// for sign changes and turning points before refining each one. Turning
+// points between samples are located by golden-section search, so two
+// roots closer together than a step are still found.
+const ScanSteps = 200
+
+// MaxSearchDoublings bounds how often the search range of an open section
+// is doubled in depth above its top (2^6 = 64 times the section's height)
+// while looking for a stage that carries a discharge or holds an area.
+const MaxSearchDoublings = 6
+
+// JumpFraction decides whether a bracketed sign change is a jump: when,
+// with the bracket narrowed to the resolution of float64, the function
+// on both sides is still further from zero than this fraction of its
+// values at the ends of the monotonic piece, it jumped past zero.
+const JumpFraction = 1e-6
+
+// CriticalBand is the half-width of the band of Froude numbers around 1
+// reported as critical flow rather than sub- or supercritical (common
+// practice: flow within a few tenths of a percent of critical is unstable
+// and is called critical).
+const CriticalBand = 0.005
+
+// Errors of the inverse solvers, for errors.Is.
+var (
+	ErrNoRoot        = errors.New("no stage in the section's range")
+	ErrTarget        = errors.New("target must be a positive, finite number")
+	ErrNoFreeSurface = errors.New("no free surface (a conduit flowing full)")
+)
+
+// Root is one stage at which a solver's condition holds.
+type Root struct {
+	// Stage is the water-surface elevation; Depth is Stage minus the
+	// lowest point.
+	Stage, Depth float64
+	// Rising tells the branch: true where the quantity solved for
+	// (discharge, area, section factor) grows with stage, false on a
+	// falling branch, such as a conduit between its peak discharge near
+	// 0.94 D and full flow.
+	Rising bool
+	// Jump reports a stage where the quantity jumps past the target
+	// instead of passing through it: ground lying level exactly at the
+	// stage (a flat floodplain) is wetted all at once. Stage is then the
+	// stage of the jump.
+	Jump bool
+}
+
+// Branch names the root's branch: "rising" or "falling".
+func (r Root) Branch() string {
+	if r.Rising {
+		return "rising"
+	}
+	return "falling"
+}
+
+// EnergyPoint is a specific energy at a stage.
+type EnergyPoint struct {
+	Stage, Depth float64
+	// Energy is the specific energy y + αV²/2g (length unit).
+	Energy float64
+}
+
+// stageFunc is a function of stage whose roots a solver finds.
+type stageFunc func(h float64) (float64, error)
+
+// solver evaluates hydraulics of one geometry.
+type solver struct {
+	g   subdivide.Geometry
+	opt Options
+}
+
+func newSolver(g subdivide.Geometry, opt Options) solver {
+	return solver{g: CompositeGeometry(g, opt.Composite), opt: opt}
+}
+
+// row returns the hydraulics at stage h; without a slope, slope 1 is used
+// (α, β, geometry and conveyance do not depend on it).
+func (s solver) row(h float64) (Row, error) {
+	w, err := s.g.At(h, s.opt.Geometry)
+	if err != nil {
+		return Row{}, err
+	}
+	slope := s.opt.Slope
+	if !(slope > 0) {
+		slope = 1
+	}
+	return Hydraulics(w, s.g.Bottom(), slope, s.opt.Units)
+}
+
+// closed reports whether the geometry is a closed conduit (full at its top).
+func (s solver) closed() (bool, error) {
+	w, err := s.g.At(s.g.Top(), s.opt.Geometry)
+	if err != nil {
+		return false, err
+	}
+	return w.Full, nil
+}
+
+// searchRange returns the stage range to search: from the bottom to the
+// crown of a closed conduit, else to the top of the section, doubled in
+// depth (at most MaxSearchDoublings times, and never where the geometry
+// refuses the stage, as a survey does with Options.NoExtend) until
+// reached(hi) holds.
+func (s solver) searchRange(reached func(h float64) (bool, error)) (lo, hi float64, err error) {
+	lo, hi = s.g.Bottom(), s.g.Top()
+	closed, err := s.closed()
+	if err != nil || closed {
+		return lo, hi, err
+	}
+	if !(hi > lo) {
+		hi = lo + 1
+	}
+	ok, err := reached(hi)
+	for k := 0; err == nil && !ok && k < MaxSearchDoublings; k++ {
+		next := lo + 2*(hi-lo)
+		ok, err = reached(next)
+		if errors.Is(err, subdivide.ErrAboveEnds) {
+			return lo, hi, nil
+		}
+		hi = next
+	}
+	return lo, hi, err
+}
+
+// findRoots returns every stage in [lo, hi] where f is zero, ascending.
+// f is sampled at ScanSteps+1 stages; each turning point between samples
+// is located by golden-section search, splitting the range into pieces on
+// which f is monotonic; each piece whose ends differ in sign is bisected.
+func findRoots(f stageFunc, lo, hi float64) ([]Root, error) {
+	type pt struct{ h, v float64 }
+	pts := make([]pt, 0, ScanSteps+8)
+	for i := 0; i <= ScanSteps; i++ {
+		h := lo + (hi-lo)*float64(i)/ScanSteps
+		if i == ScanSteps {
+			h = hi
+		}
+		v, err := f(h)
+		if err != nil {
+			return nil, err
+		}
+		pts = append(pts, pt{h, v})
+	}
+	all := make([]pt, 0, len(pts)+4)
+	for i, p := range pts {
+		all = append(all, p)
+		if i == 0 || i == len(pts)-1 {
+			continue
+		}
+		d1, d2 := p.v-pts[i-1].v, pts[i+1].v-p.v
+		if d1*d2 < 0 {
+			h, v, err := golden(f, pts[i-1].h, pts[i+1].h, d1 > 0)
+			if err != nil {
+				return nil, err
+			}
+			if h < p.h {
+				all = append(all[:len(all)-1], pt{h, v}, p)
+			} else if h > p.h {
+				// Inserted after p, before the next sample.
+				all = append(all, pt{h, v})
+			}
+		}
+	}
+	var roots []Root
+	add := func(h float64, rising, jump bool) {
+		if n := len(roots); n > 0 && roots[n-1].Stage == h {
+			return
+		}
+		roots = append(roots, Root{Stage: h, Depth: h - lo, Rising: rising, Jump: jump})
+	}
+	for i := 0; i+1 < len(all); i++ {
+		a, b := all[i], all[i+1]
+		if !(b.h > a.h) {
+			continue
+		}
+		switch {
+		case a.v == 0:
+			add(a.h, b.v > a.v, false)
+		case b.v == 0:
+			// Taken as the left end of the next piece, or below at the end.
+		case (a.v < 0) != (b.v < 0) && !math.IsNaN(a.v) && !math.IsNaN(b.v):
+			h, left, right, err := bisect(f, a.h, b.h, a.v, b.v)
+			if err != nil {
+				return nil, err
+			}
+			scale := math.Abs(a.v) + math.Abs(b.v)
+			jump := math.Min(math.Abs(left), math.Abs(right)) > JumpFraction*scale
+			add(h, b.v > a.v, jump)
+		}
+	}
+	if last := all[len(all)-1]; last.v == 0 {
+		add(last.h, len(all) > 1 && last.v > all[len(all)-2].v, false)
+	}
+	return roots, nil
+}
+
+// bisect refines a root of f bracketed by [a, b] (fa = f(a), fb = f(b) of
+// the other sign) to the resolution of float64. It returns the root and
+// the values of f at the ends of the final bracket.
+func bisect(f stageFunc, a, b, fa, fb float64) (h, left, right float64, err error) {
+	for i := 0; i < 200; i++ {
+		m := a + (b-a)/2
+		if !(m > a && m < b) {
+			break
+		}
+		fm, err := f(m)
+		if err != nil {
+			return m, fa, fb, err
+		}
+		if fm == 0 {
+			return m, 0, 0, nil
+		}
+		if (fm < 0) == (fa < 0) {
+			a, fa = m, fm
+		} else {
+			b, fb = m, fm
+		}
+	}
+	// The end nearer zero is the root (a jump lies at its far side).
+	if math.Abs(fb) < math.Abs(fa) {
+		return b, fa, fb, nil
+	}
+	return a, fa, fb, nil
+}
+
+// golden finds the maximum (or minimum) of f on [a, b] by golden-section
+// search to the resolution of float64.
+//
+// Reference: Press et al. (2007), Numerical Recipes, 3rd ed., section 10.2.
+func golden(f stageFunc, a, b float64, max bool) (h, v float64, err error) {
+	sign := 1.0
+	if max {
+		sign = -1
+	}
+	g := func(x float64) (float64, error) {
+		y, err := f(x)
+		return sign * y, err
+	}
+	const r = 0.6180339887498949 // (√5 − 1)/2
+	c, d := b-r*(b-a), a+r*(b-a)
+	fc, err := g(c)
+	if err != nil {
+		return 0, 0, err
+	}
+	fd, err := g(d)
+	if err != nil {
+		return 0, 0, err
+	}
+	for i := 0; i < 200 && c < d; i++ {
+		if fc < fd {
+			b, d, fd = d, c, fc
+			c = b - r*(b-a)
+			if fc, err = g(c); err != nil {
+				return 0, 0, err
+			}
+		} else {
+			a, c, fc = c, d, fd
+			d = a + r*(b-a)
+			if fd, err = g(d); err != nil {
+				return 0, 0, err
+			}
+		}
+		if !(b-a > 0) || b-a <= 4*math.Abs(a+b)*0x1p-52 {
+			break
+		}
+	}
+	if fc < fd {
+		return c, sign * fc, nil
+	}
+	return d, sign * fd, nil
+}
+
+func checkTarget(v float64, what string) error {
+	if !(v > 0) || math.IsInf(v, 0) {
+		return fmt.Errorf("%s %v: %w", what, v, ErrTarget)
+	}
+	return nil
+}
+
+// NormalStages returns every stage at which geometry g carries discharge q
+// in uniform flow at friction slope opt.Slope (Manning's equation with the
+// subdivided conveyance of Hydraulics): the normal stage. Most sections
+// have one; a closed conduit between full flow and its peak discharge has
+// two (the lower on the rising branch, the upper on the falling branch),
+// and a compound section merged into one subsection just above bankfull
+// can have several. Roots are ascending, each to DepthTolerance.
+//
+// Stages above an open section's top are searched as Geometry.At extends
+// it (built shapes exactly; surveys with vertical walls at the ends).
+func NormalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error) {
+	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
+		return nil, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
+	}
+	if err := checkTarget(q, "discharge"); err != nil {
+		return nil, err
+	}
+	s := newSolver(g, opt)
+	f := func(h float64) (float64, error) {
+		r, err := s.row(h)
+		return r.Discharge - q, err
+	}
+	return s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
+		fmt.Sprintf("discharge %g %s", q, opt.Units.Discharge()))
+}
+
+// solve searches the range and returns all roots of f, or ErrNoRoot.
+func (s solver) solve(f stageFunc, reached func(float64) (bool, error), what string) ([]Root, error) {
+	lo, hi, err := s.searchRange(reached)
+	if err != nil {
+		return nil, err
+	}
+	roots, err := findRoots(f, lo, hi)
+	if err != nil {
+		return nil, err
+	}
+	if len(roots) == 0 {
+		return nil, fmt.Errorf("%s: %w from %g to %g %s", what, ErrNoRoot, lo, hi, s.opt.Units.Length())
+	}
+	return roots, nil
+}
+
+// StageForArea returns the stage at which geometry g holds flow area a.
+// Area grows with stage, so there is one root.
+func StageForArea(g subdivide.Geometry, a float64, opt Options) (Root, error) {
+	if err := checkTarget(a, "area"); err != nil {
+		return Root{}, err
+	}
+	s := newSolver(g, opt)
+	f := func(h float64) (float64, error) {
+		w, err := s.g.At(h, opt.Geometry)
+		return w.Area - a, err
+	}
+	roots, err := s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
+		fmt.Sprintf("area %g %s", a, opt.Units.Area()))
+	if err != nil {
+		return Root{}, err
+	}
+	return roots[0], nil
+}
+
+// sectionFactor returns ln(g·A³/(α·T·q²)), which is −2·ln F: zero at
+// critical flow, −Inf when dry and +Inf at a full conduit's zero top width.
+func (s solver) sectionFactor(h, q float64) (float64, Row, error) {
+	r, err := s.row(h)
+	if err != nil {
+		return 0, r, err
+	}
+	switch {
+	case !(r.Area > 0):
+		return math.Inf(-1), r, nil
+	case !(r.TopWidth > 0):
+		return math.Inf(1), r, nil
+	}
+	alpha := r.Alpha
+	if math.IsNaN(alpha) {
+		alpha = 1
+	}
+	g := s.opt.Units.Gravity()
+	return math.Log(g * r.Area * r.Area * r.Area / (alpha * r.TopWidth * q * q)), r, nil
+}
+
+// CriticalStages returns every stage at which discharge q is critical in
+// geometry g, where the Froude number with the energy coefficient α of
+// Hydraulics is 1:
+//
+//	α·Q²·T / (g·A³) = 1
+//
+// (Chow, 1959, section 4-2 and eq. 4-4). In a prismatic section there is
+// one; in a compound section α jumps above bankfull and there can be two
+// or three (Blalock & Sturm, 1981, J. Hydraulics Div. ASCE 107(HY6)). The
+// stage range is scanned for sign changes and each is refined. Rising is
+// true where the Froude number falls as stage rises (a minimum of specific
+// energy).
+func CriticalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error) {
+	if err := checkTarget(q, "discharge"); err != nil {
+		return nil, err
+	}
+	s := newSolver(g, opt)
+	f := func(h float64) (float64, error) {
+		v, _, err := s.sectionFactor(h, q)
+		return v, err
+	}
+	return s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
+		fmt.Sprintf("critical flow of %g %s", q, opt.Units.Discharge()))
+}
+
+// CriticalDischarge returns the discharge that is critical at a stage,
+// Qc = √(g·A³/(α·T)). It is ErrNoFreeSurface for a conduit flowing full
+// and 0 for a dry stage.
+func CriticalDischarge(g subdivide.Geometry, stage float64, opt Options) (float64, error) {
+	s := newSolver(g, opt)
+	r, err := s.row(stage)
+	if err != nil {
+		return 0, err
+	}
+	if !(r.Area > 0) {
+		return 0, nil
+	}
+	if !(r.TopWidth > 0) {
+		return 0, fmt.Errorf("stage %g: %w", stage, ErrNoFreeSurface)
+	}
+	alpha := r.Alpha
+	if math.IsNaN(alpha) {
+		alpha = 1
+	}
+	return math.Sqrt(opt.Units.Gravity() * r.Area * r.Area * r.Area / (alpha * r.TopWidth)), nil
+}
+
+// SpecificEnergy returns E = y + α·V²/(2g) for discharge q at a stage,
+// with y the depth above the lowest point and V = q/A (Chow, 1959,
+// section 3-2). It is +Inf at a dry stage.
+func SpecificEnergy(g subdivide.Geometry, stage, q float64, opt Options) (float64, error) {
+	return newSolver(g, opt).energy(stage, q)
+}
+
+func (s solver) energy(h, q float64) (float64, error) {
+	r, err := s.row(h)
+	if err != nil {
+		return 0, err
+	}
+	if !(r.Area > 0) {
+		return math.Inf(1), nil
+	}
+	alpha := r.Alpha
+	if math.IsNaN(alpha) {
+		alpha = 1
+	}
+	v := q / r.Area
+	return r.Depth + alpha*v*v/(2*s.opt.Units.Gravity()), nil
+}
+
+// MinSpecificEnergy returns the stage and value of the least specific
+// energy of discharge q in g. With α constant the minimum lies at the
+// critical depth (Chow, 1959, section 3-2); where α varies with stage the
+// energy itself is minimised: the range up to the highest critical stage
+// (doubled in depth) is scanned and each local minimum refined by
+// golden-section search; the least is returned.
+func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoint, error) {
+	crit, err := CriticalStages(g, q, opt)
+	if err != nil {
+		return EnergyPoint{}, err
+	}
+	s := newSolver(g, opt)
+	lo := s.g.Bottom()
+	hi := crit[len(crit)-1].Stage
+	hi = math.Min(lo+2*(hi-lo), math.Max(hi, s.g.Top()))
+	if closed, err := s.closed(); err != nil {
+		return EnergyPoint{}, err
+	} else if closed {
+		hi = math.Min(hi, s.g.Top())
+	}
+	e := func(h float64) (float64, error) { return s.energy(h, q) }
+	best := EnergyPoint{Energy: math.Inf(1)}
+	consider := func(h, v float64) {
+		if v < best.Energy {
+			best = EnergyPoint{Stage: h, Depth: h - lo, Energy: v}
+		}
+	}
+	prev := make([]float64, 0, 3)
+	hs := make([]float64, 0, 3)
+	for i := 0; i <= ScanSteps; i++ {
+		h := lo + (hi-lo)*float64(i)/ScanSteps
+		v, err := e(h)
+		if err != nil {
+			return best, err
+		}
+		consider(h, v)
+		prev, hs = append(prev, v), append(hs, h)
+		if len(prev) == 3 {
+			if prev[1] <= prev[0] && prev[1] <= prev[2] {
+				hm, vm, err := golden(e, hs[0], hs[2], false)
+				if err != nil {
+					return best, err
+				}
+				consider(hm, vm)
+			}
+			prev, hs = prev[1:], hs[1:]
+		}
+	}
+	for _, c := range crit {
+		v, err := e(c.Stage)
+		if err != nil {
+			return best, err
+		}
+		consider(c.Stage, v)
+	}
+	return best, nil
+}
+
+// Regime names the flow regime of a Froude number: "critical" within
+// CriticalBand of 1, else "subcritical" or "supercritical"; "" when the
+// Froude number is undefined (a conduit flowing full).
+func Regime(froude float64) string {
+	switch {
+	case math.IsNaN(froude):
+		return ""
+	case math.Abs(froude-1) <= CriticalBand:
+		return "critical"
+	case froude < 1:
+		return "subcritical"
+	}
+	return "supercritical"
+}
+
+// PeakDischarge returns the stage and value of the largest discharge at
+// slope opt.Slope in the range from the bottom to the top of g: for a
+// circular conduit near 0.94 D, above its full-flow discharge. The range
+// is scanned and the largest turning point refined by golden-section
+// search.
+func PeakDischarge(g subdivide.Geometry, opt Options) (stage, q float64, err error) {
+	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
+		return 0, 0, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
+	}
+	s := newSolver(g, opt)
+	f := func(h float64) (float64, error) {
+		r, err := s.row(h)
+		return r.Discharge, err
+	}
+	lo, hi := s.g.Bottom(), s.g.Top()
+	step := (hi - lo) / ScanSteps
+	bestH, bestQ := lo, math.Inf(-1)
+	for i := 0; i <= ScanSteps; i++ {
+		h := lo + float64(i)*step
+		if i == ScanSteps {
+			h = hi
+		}
+		v, err := f(h)
+		if err != nil {
+			return 0, 0, err
+		}
+		if v > bestQ {
+			bestH, bestQ = h, v
+		}
+	}
+	a, b := math.Max(lo, bestH-step), math.Min(hi, bestH+step)
+	h, v, err := golden(f, a, b, true)
+	if err != nil {
+		return 0, 0, err
+	}
+	if v > bestQ {
+		return h, v, nil
+	}
+	return bestH, bestQ, nil
+}

@@ -1,0 +1,488 @@
+package rating
+
+import (
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"testing"
+
+	"wetline/subdivide"
+)
+
+func mustShape(t testing.TB, spec string, n float64) subdivide.Geometry {
+	t.Helper()
+	s, err := subdivide.ParseShape(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, err := s.Build([3]float64{n, n, n})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return g
+}
+
+// closeDepth reports whether stage got is within DepthTolerance of the
+// depth of stage want above bottom.
+func closeDepth(got, want, bottom float64) bool {
+	return math.Abs(got-want) <= DepthTolerance*math.Max(want-bottom, 1e-9)
+}
+
+// TestCircularPartFull checks the classic part-full relations of a
+// circular conduit with constant n against a fine stage grid (not the
+// solver): the discharge peaks at y/D ≈ 0.938 with Q/Qfull ≈ 1.076, the
+// velocity at y/D ≈ 0.81 with V/Vfull ≈ 1.14 (the hydraulic-elements
+// chart for circular sections of sewer design manuals, e.g. ASCE Manual of
+// Practice 37; values from memory, three figures); at half depth Q/Qfull = 0.5 and
+// V/Vfull = 1 (closed form: R is D/4 at half and at full depth).
+func TestCircularPartFull(t *testing.T) {
+	for _, d := range []float64{0.3, 1, 2.4} {
+		g := mustShape(t, "circle:diameter="+ftoa(d), 0.013)
+		opt := Options{Slope: 0.004}
+		const m = 20000
+		stages := make([]float64, m+1)
+		for i := range stages {
+			stages[i] = d * float64(i) / m
+		}
+		tab, err := Compute(g, stages, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		full := tab.Rows[m]
+		if !full.Full || full.TopWidth != 0 {
+			t.Fatalf("D %g: the last row is not full: %+v", d, full)
+		}
+		qi, vi := 1, 1
+		for i, r := range tab.Rows {
+			if r.Discharge > tab.Rows[qi].Discharge {
+				qi = i
+			}
+			if r.MeanVelocity > tab.Rows[vi].MeanVelocity {
+				vi = i
+			}
+		}
+		checks := []struct {
+			name      string
+			got, want float64
+			tol       float64
+		}{
+			{"y/D at peak discharge", stages[qi] / d, 0.938, 0.001},               // from memory
+			{"Qmax/Qfull", tab.Rows[qi].Discharge / full.Discharge, 1.076, 0.001}, // from memory
+			{"y/D at peak velocity", stages[vi] / d, 0.81, 0.005},                 // from memory
+			{"Vmax/Vfull", tab.Rows[vi].MeanVelocity / full.MeanVelocity, 1.14, 0.005},
+			{"Q/Qfull at half depth", tab.Rows[m/2].Discharge / full.Discharge, 0.5, 1e-12},     // closed form
+			{"V/Vfull at half depth", tab.Rows[m/2].MeanVelocity / full.MeanVelocity, 1, 1e-12}, // closed form
+		}
+		for _, c := range checks {
+			if math.Abs(c.got-c.want) > c.tol {
+				t.Errorf("D %g: %s = %.5f, want %.4f ± %g", d, c.name, c.got, c.want, c.tol)
+			}
+		}
+		// The solver's peak agrees with the grid.
+		h, q, err := PeakDischarge(g, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if q < tab.Rows[qi].Discharge || math.Abs(h-stages[qi]) > d/m {
+			t.Errorf("D %g: PeakDischarge %g at %g, grid %g at %g", d, q, h, tab.Rows[qi].Discharge, stages[qi])
+		}
+		// Between full and peak discharge there are two normal stages, one
+		// on each branch, each carrying the discharge.
+		target := (full.Discharge + q) / 2
+		roots, err := NormalStages(g, target, opt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(roots) != 2 || !roots[0].Rising || roots[1].Rising || !(roots[0].Stage < h && h < roots[1].Stage) {
+			t.Fatalf("D %g: roots %+v around peak %g", d, roots, h)
+		}
+		for _, r := range roots {
+			tr, _ := Compute(g, []float64{r.Stage}, opt)
+			if math.Abs(tr.Rows[0].Discharge-target) > 1e-9*target {
+				t.Errorf("D %g: root %g carries %g, want %g", d, r.Stage, tr.Rows[0].Discharge, target)
+			}
+		}
+		// Above the peak there is none.
+		if _, err := NormalStages(g, q*1.001, opt); err == nil {
+			t.Errorf("D %g: a normal stage for more than the peak discharge", d)
+		}
+	}
+}
+
+func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// TestTrapezoidNormalDepth: Chow (1959), Open-Channel Hydraulics, the
+// worked example of section 6-5 (b = 20 ft, z = 2, S = 0.0016, n = 0.025,
+// Q = 400 ft³/s gives yn = 3.36 ft; from memory). Then Manning's equation
+// with the trapezoid's closed-form A and P (Chow table 2-1) holds at every
+// returned depth, for several channels.
+func TestTrapezoidNormalDepth(t *testing.T) {
+	g := mustShape(t, "trapezoid:bottom=20,side=2", 0.025)
+	roots, err := NormalStages(g, 400, Options{Slope: 0.0016, Units: US})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(roots) != 1 || math.Abs(roots[0].Depth-3.36) > 0.005 {
+		t.Errorf("Chow's trapezoid: normal depths %+v, want 3.36 ft", roots)
+	}
+	tests := []struct {
+		b, z, n, s, q float64
+		u             Units
+	}{
+		{20, 2, 0.025, 0.0016, 400, US},
+		{3, 1.5, 0.015, 0.001, 12, SI},
+		{0.8, 0.5, 0.03, 0.02, 0.4, SI},
+		{10, 3, 0.035, 0.0002, 150, SI},
+	}
+	for _, tt := range tests {
+		g := mustShape(t, "trapezoid:bottom="+ftoa(tt.b)+",side="+ftoa(tt.z), tt.n)
+		roots, err := NormalStages(g, tt.q, Options{Slope: tt.s, Units: tt.u})
+		if err != nil || len(roots) != 1 {
+			t.Fatalf("%+v: %v %v", tt, roots, err)
+		}
+		y := roots[0].Depth
+		a := (tt.b + tt.z*y) * y
+		p := tt.b + 2*y*math.Sqrt(1+tt.z*tt.z)
+		q := tt.u.ManningK() / tt.n * a * math.Pow(a/p, 2.0/3) * math.Sqrt(tt.s) // Manning, Chow eq. 5-7
+		if math.Abs(q-tt.q) > 1e-8*tt.q {
+			t.Errorf("%+v: depth %g carries %g by the closed form", tt, y, q)
+		}
+	}
+}
+
+// TestCriticalDepthClosedForm: a rectangle's critical depth is
+// yc = (q²/g)^(1/3) with q the discharge per unit width, and a
+// trapezoid's satisfies Q²/g = A³/T with the closed-form A and T (Chow,
+// 1959, section 4-3 and eq. 4-8).
+func TestCriticalDepthClosedForm(t *testing.T) {
+	for _, tt := range []struct {
+		width, q float64
+		u        Units
+	}{{3, 12, SI}, {0.5, 0.05, SI}, {20, 400, US}} {
+		g := mustShape(t, "rectangle:width="+ftoa(tt.width), 0.02)
+		roots, err := CriticalStages(g, tt.q, Options{Units: tt.u})
+		if err != nil || len(roots) != 1 {
+			t.Fatalf("%+v: %v %v", tt, roots, err)
+		}
+		qw := tt.q / tt.width
+		want := math.Cbrt(qw * qw / tt.u.Gravity())
+		if !closeDepth(roots[0].Depth, want, 0) {
+			t.Errorf("rectangle %+v: yc %g, closed form %g", tt, roots[0].Depth, want)
+		}
+		// Minimum specific energy of a rectangle is 1.5 yc (Chow 1959, sect. 3-2).
+		e, err := MinSpecificEnergy(g, tt.q, Options{Units: tt.u})
+		if err != nil || math.Abs(e.Energy-1.5*want) > 1e-9*want || math.Abs(e.Depth-want) > 1e-6*want {
+			t.Errorf("rectangle %+v: least energy %+v, want 1.5·yc = %g at %g", tt, e, 1.5*want, want)
+		}
+	}
+	for _, tt := range []struct{ b, z, q float64 }{{20, 2, 400}, {3, 1.5, 12}, {0.5, 1, 0.2}} {
+		g := mustShape(t, "trapezoid:bottom="+ftoa(tt.b)+",side="+ftoa(tt.z), 0.02)
+		roots, err := CriticalStages(g, tt.q, Options{})
+		if err != nil || len(roots) != 1 {
+			t.Fatalf("%+v: %v %v", tt, roots, err)
+		}
+		y := roots[0].Depth
+		a, tw := (tt.b+tt.z*y)*y, tt.b+2*tt.z*y
+		if lhs, rhs := tt.q*tt.q/SI.Gravity(), a*a*a/tw; math.Abs(lhs-rhs) > 1e-9*rhs {
+			t.Errorf("trapezoid %+v: yc %g gives A³/T %g, Q²/g %g", tt, y, rhs, lhs)
+		}
+		qc, err := CriticalDischarge(g, y, Options{})
+		if err != nil || math.Abs(qc-tt.q) > 1e-8*tt.q {
+			t.Errorf("trapezoid %+v: critical discharge at yc %g, want %g (%v)", tt, qc, tt.q, err)
+		}
+	}
+}
+
+// compoundFroude2 is α·Q²·T/(g·A³) for a rectangular main channel of
+// width b and depth d with a horizontal floodplain of width f on each side
+// bounded by vertical walls, n = nc in the channel and nf on the
+// floodplains, subdivided at the banks (closed form, written out here
+// independently of the engine; α as in Chow 1959 section 2-7).
+func compoundFroude2(y, q, b, d, f, nc, nf float64) float64 {
+	g := SI.Gravity()
+	if y <= d {
+		a, t := b*y, b
+		return q * q * t / (g * a * a * a)
+	}
+	ac, pc := b*y, b+2*d
+	af, pf := f*(y-d), f+(y-d)
+	kc := ac * math.Pow(ac/pc, 2.0/3) / nc
+	kf := af * math.Pow(af/pf, 2.0/3) / nf
+	at, kt := ac+2*af, kc+2*kf
+	alpha := (kc*kc*kc/(ac*ac) + 2*kf*kf*kf/(af*af)) / (kt * kt * kt / (at * at))
+	t := b + 2*f
+	return alpha * q * q * t / (g * at * at * at)
+}
+
+// TestCompoundCriticalDepths: a compound section where the discharge has
+// two critical depths (two minima of specific energy, one in the main
+// channel and one over the floodplains; Blalock & Sturm 1981, J. Hydraulics
+// Div. ASCE 107(HY6)). Every crossing of F = 1 found by a fine brute-force
+// scan of the closed form above must be found by CriticalStages.
+func TestCompoundCriticalDepths(t *testing.T) {
+	const b, d, f, nc, nf = 4.0, 2.0, 40.0, 0.03, 0.06
+	g := mustShape(t, "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", nc)
+	for _, q := range []float64{10, 20, 30} {
+		roots, err := CriticalStages(g, q, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		// Brute force: sign changes of F² − 1 on a fine grid.
+		const m = 200000
+		const top = 8.0
+		var want []float64
+		prev := compoundFroude2(top/m, q, b, d, f, nc, nf) - 1
+		for i := 2; i <= m; i++ {
+			y := top * float64(i) / m
+			v := compoundFroude2(y, q, b, d, f, nc, nf) - 1
+			if (v < 0) != (prev < 0) {
+				want = append(want, y)
+			}
+			prev = v
+		}
+		if len(want) != len(roots) {
+			t.Fatalf("Q %g: %d critical stages %+v, brute force %v", q, len(roots), roots, want)
+		}
+		minima := 0
+		for i, r := range roots {
+			if math.Abs(r.Depth-want[i]) > top/m {
+				t.Errorf("Q %g: critical depth %g, brute force %g", q, r.Depth, want[i])
+			}
+			if r.Rising {
+				minima++
+				// A true crossing (not the jump at bankfull): F = 1 there.
+				if f2 := compoundFroude2(r.Depth, q, b, d, f, nc, nf); math.Abs(f2-1) > 1e-9 {
+					t.Errorf("Q %g: at %g F² = %g", q, r.Depth, f2)
+				}
+			}
+		}
+		if minima != 2 {
+			t.Errorf("Q %g: %d critical depths at energy minima, want 2: %+v", q, minima, roots)
+		}
+	}
+}
+
+// randomSection returns a random geometry: a built shape or a random
+// surveyed ground line with n changing along it.
+func randomSection(rng *rand.Rand, i int) (subdivide.Geometry, string) {
+	n := 0.01 + 0.08*rng.Float64()
+	switch i % 5 {
+	case 0:
+		s := subdivide.Shape{Kind: subdivide.Trapezoid, Bottom: 0.2 + 30*rng.Float64(), Left: 4 * rng.Float64(), Right: 4 * rng.Float64(), Invert: 50 * rng.Float64()}
+		g, _ := s.Build([3]float64{n})
+		return g, s.String()
+	case 1:
+		s := subdivide.Shape{Kind: subdivide.Circle, Diameter: 0.1 + 4*rng.Float64(), Invert: 10 * rng.Float64()}
+		g, _ := s.Build([3]float64{n})
+		return g, s.String()
+	case 2:
+		s := subdivide.Shape{Kind: subdivide.Compound, Bottom: 0.5 + 10*rng.Float64(), Left: 2 * rng.Float64(), Right: 2 * rng.Float64(),
+			Depth: 0.3 + 3*rng.Float64(), Floodplain: 1 + 80*rng.Float64(), Outer: 5 * rng.Float64(), FloodN: 0.03 + 0.1*rng.Float64()}
+		g, _ := s.Build([3]float64{n, n, n})
+		return g, s.String()
+	}
+	m := 3 + rng.IntN(15)
+	sec := subdivide.Section{Name: "random"}
+	x := 0.0
+	for j := 0; j < m; j++ {
+		z := 5 * rng.Float64()
+		if j == 0 || j == m-1 {
+			z = 6 + rng.Float64()
+		}
+		sec.Points = append(sec.Points, subdivide.Point{Station: x, Elevation: z})
+		x += 0.5 + 10*rng.Float64()
+		if j > 0 {
+			sec.N = append(sec.N, 0.015+0.08*rng.Float64())
+		}
+	}
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		panic(err)
+	}
+	return p, "random survey"
+}
+
+// TestRoundTrips: stage → Q → stage and stage → A → stage return the
+// start within DepthTolerance over many random sections and stages
+// (property test; the forward direction is the engine's exact geometry).
+func TestRoundTrips(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	for i := 0; i < 150; i++ {
+		g, name := randomSection(rng, i)
+		lo, hi := g.Bottom(), g.Top()
+		h := lo + (0.02+0.97*rng.Float64())*(hi-lo)
+		if i%5 > 2 && rng.IntN(2) == 0 {
+			lo = h // surveys: also stages in separate pools
+		}
+		opt := Options{Slope: math.Pow(10, -1-3*rng.Float64()), Units: Units(rng.IntN(2)), Composite: Composite(rng.IntN(4))}
+		tab, err := Compute(g, []float64{h}, opt)
+		if err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		r := tab.Rows[0]
+		roots, err := NormalStages(g, r.Discharge, opt)
+		if err != nil {
+			t.Fatalf("%s stage %g Q %g: %v", name, h, r.Discharge, err)
+		}
+		found := false
+		for _, x := range roots {
+			found = found || closeDepth(x.Stage, h, g.Bottom())
+		}
+		if !found {
+			t.Errorf("%s (%v): stage %g → Q %g → stages %+v", name, opt.Composite, h, r.Discharge, roots)
+		}
+		ar, err := StageForArea(g, r.Area, opt)
+		if err != nil || !closeDepth(ar.Stage, h, g.Bottom()) {
+			t.Errorf("%s: stage %g → A %g → stage %g (%v)", name, h, r.Area, ar.Stage, err)
+		}
+		if r.TopWidth > 0 {
+			qc, err := CriticalDischarge(g, h, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			crit, err := CriticalStages(g, qc, opt)
+			if err != nil {
+				t.Fatalf("%s: stage %g → Qc %g: %v", name, h, qc, err)
+			}
+			found = false
+			for _, x := range crit {
+				found = found || closeDepth(x.Stage, h, g.Bottom())
+			}
+			if !found {
+				t.Errorf("%s: stage %g → Qc %g → critical stages %+v", name, h, qc, crit)
+			}
+		}
+	}
+}
+
+func TestSpecificEnergy(t *testing.T) {
+	// E = y + V²/2g in a rectangle (Chow 1959, eq. 3-3 with α = 1).
+	g := mustShape(t, "rectangle:width=2", 0.02)
+	e, err := SpecificEnergy(g, 0.5, 3, Options{})
+	v := 3 / (2 * 0.5)
+	if want := 0.5 + v*v/(2*SI.Gravity()); err != nil || math.Abs(e-want) > 1e-12 {
+		t.Errorf("E %g, want %g (%v)", e, want, err)
+	}
+}
+
+func TestSolveRegime(t *testing.T) {
+	g := mustShape(t, "trapezoid:bottom=3,side=2", 0.025)
+	for _, tt := range []struct {
+		slope float64
+		want  string
+	}{{0.0008, "subcritical"}, {0.05, "supercritical"}} {
+		sol, err := Solve(g, 12, Options{Slope: tt.slope})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if sol.Normal[0].Regime != tt.want {
+			t.Errorf("slope %g: %s (F %g)", tt.slope, sol.Normal[0].Regime, sol.Normal[0].Row.Froude)
+		}
+		// Closed form: regime follows from normal versus critical depth.
+		if (sol.Normal[0].Depth > sol.Critical[0].Depth) != (tt.want == "subcritical") {
+			t.Errorf("slope %g: normal %g critical %g", tt.slope, sol.Normal[0].Depth, sol.Critical[0].Depth)
+		}
+	}
+}
+
+// TestUnsubdividedCompoundRoots: a compound ground line without banks and
+// with one n is a single subsection; just above bankfull the wetted
+// perimeter jumps faster than the area, so discharge falls before it rises
+// again (the known artefact of not subdividing a compound section). Every
+// crossing is returned, agreeing with a brute-force scan of the engine's
+// own forward computation; the smooth ones carry the discharge and the
+// drop at the level floodplain is marked as a jump.
+func TestUnsubdividedCompoundRoots(t *testing.T) {
+	sec := subdivide.Section{Name: "two-stage", Points: []subdivide.Point{
+		{Station: 0, Elevation: 4}, {Station: 1, Elevation: 2}, {Station: 61, Elevation: 2}, {Station: 62, Elevation: 0},
+		{Station: 66, Elevation: 0}, {Station: 67, Elevation: 2}, {Station: 127, Elevation: 2}, {Station: 128, Elevation: 4},
+	}}
+	sec.NByRegion[subdivide.Channel] = 0.03
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := Options{Slope: 0.001}
+	bank, err := Compute(p, []float64{2}, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	q := 0.9 * bank.Rows[0].Discharge
+	roots, err := NormalStages(p, q, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const m = 20000
+	stages := make([]float64, m+1)
+	for i := range stages {
+		stages[i] = 4 * float64(i) / m
+	}
+	tab, _ := Compute(p, stages, opt)
+	var want []float64
+	for i := 1; i <= m; i++ {
+		if (tab.Rows[i].Discharge < q) != (tab.Rows[i-1].Discharge < q) {
+			want = append(want, stages[i])
+		}
+	}
+	if len(want) != 3 || len(roots) != 3 {
+		t.Fatalf("roots %+v, brute force %v: want three", roots, want)
+	}
+	for i, r := range roots {
+		// The middle one is the jump at the level floodplain, stage 2.
+		if math.Abs(r.Stage-want[i]) > 4.0/m || r.Rising != (i != 1) || r.Jump != (i == 1) {
+			t.Errorf("root %d: %+v, brute force %g", i, r, want[i])
+		}
+		if r.Jump {
+			continue
+		}
+		rt, _ := Compute(p, []float64{r.Stage}, opt)
+		if math.Abs(rt.Rows[0].Discharge-q) > 1e-9*q {
+			t.Errorf("root %g carries %g, want %g", r.Stage, rt.Rows[0].Discharge, q)
+		}
+	}
+}
+
+func BenchmarkNormalStagesSurvey(b *testing.B) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	g, _ := randomSection(rng, 3)
+	opt := Options{Slope: 0.001}
+	tab, _ := Compute(g, []float64{(g.Bottom() + g.Top()) / 2}, opt)
+	for b.Loop() {
+		if _, err := NormalStages(g, tab.Rows[0].Discharge, opt); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkSolveConduit(b *testing.B) {
+	g := mustShape(b, "circle:diameter=0.6", 0.013)
+	for b.Loop() {
+		if _, err := Solve(g, 0.45, Options{Slope: 0.005}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// TestSearchAboveTop: an open-ended built shape is searched above its
+// nominal top even with NoExtend (its sides go on exactly), while a survey
+// with NoExtend is not.
+func TestSearchAboveTop(t *testing.T) {
+	g := mustShape(t, "trapezoid:bottom=1,side=1", 0.03) // nominal top 1 m
+	opt := Options{Slope: 0.001, Geometry: subdivide.Options{NoExtend: true}}
+	roots, err := NormalStages(g, 50, opt)
+	if err != nil || len(roots) != 1 || !(roots[0].Depth > 1) {
+		t.Fatalf("open-ended trapezoid: %+v, %v", roots, err)
+	}
+	// Closed form check of Manning's equation (Chow 1959, eq. 5-7 and table 2-1).
+	y := roots[0].Depth
+	a, p := (1+y)*y, 1+2*y*math.Sqrt2
+	if q := a * math.Pow(a/p, 2.0/3) / 0.03 * math.Sqrt(0.001); math.Abs(q-50) > 1e-8*50 {
+		t.Errorf("depth %g carries %g", y, q)
+	}
+	sec := subdivide.Section{Points: []subdivide.Point{{Station: 0, Elevation: 1}, {Station: 1, Elevation: 0}, {Station: 2, Elevation: 0}, {Station: 3, Elevation: 1}},
+		N: []float64{0.03, 0.03, 0.03}}
+	p2, _ := subdivide.Compile(sec)
+	if _, err := NormalStages(p2, 50, opt); err == nil {
+		t.Error("survey with NoExtend: a stage above its ends was returned")
+	}
+}

@@ -1,0 +1,132 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"wetline/subdivide"
+)
+
+// NormalRoot is a normal stage with the hydraulics there.
+type NormalRoot struct {
+	Root
+	// Row is the hydraulics at the normal stage (its Discharge is the
+	// target discharge to the solver's accuracy).
+	Row Row
+	// Regime is Regime(Row.Froude).
+	Regime string
+}
+
+// CriticalRoot is a critical stage with the energy coefficient and
+// specific energy there.
+type CriticalRoot struct {
+	Root
+	// Alpha is the energy coefficient at the stage; Energy the specific
+	// energy of the discharge there (length unit).
+	Alpha, Energy float64
+}
+
+// Solution gathers what is known of one discharge in one section.
+type Solution struct {
+	// Name is the geometry's name, if it has one.
+	Name string
+	// Units, Slope, Discharge and Composite echo the inputs.
+	Units     Units
+	Slope     float64
+	Discharge float64
+	Composite Composite
+	// Bottom and Top are the geometry's lowest point and top (crown).
+	Bottom, Top float64
+	// Normal holds every normal stage, ascending; empty without a slope.
+	Normal []NormalRoot
+	// Critical holds every critical stage, ascending.
+	Critical []CriticalRoot
+	// MinEnergy is the least specific energy and its stage.
+	MinEnergy EnergyPoint
+	// Closed reports a closed conduit; then FullDischarge is its discharge
+	// flowing just full and PeakDischarge (at PeakStage) the largest it
+	// carries part full, both at Slope (NaN without a slope).
+	Closed                                  bool
+	FullDischarge, PeakStage, PeakDischarge float64
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+}
+
+// Solve finds the normal stages (when opt.Slope > 0), the critical stages
+// and the least specific energy of discharge q in g.
+func Solve(g subdivide.Geometry, q float64, opt Options) (Solution, error) {
+	sol := Solution{Units: opt.Units, Slope: opt.Slope, Discharge: q, Composite: opt.Composite,
+		Bottom: g.Bottom(), Top: g.Top(), FullDischarge: math.NaN(), PeakStage: math.NaN(), PeakDischarge: math.NaN()}
+	if n, ok := g.(interface{ Name() string }); ok {
+		sol.Name = n.Name()
+	}
+	if err := checkTarget(q, "discharge"); err != nil {
+		return sol, err
+	}
+	s := newSolver(g, opt)
+	closed, err := s.closed()
+	if err != nil {
+		return sol, err
+	}
+	sol.Closed = closed
+	u := opt.Units
+	if opt.Slope > 0 {
+		if closed {
+			full, err := s.row(s.g.Top())
+			if err != nil {
+				return sol, err
+			}
+			sol.FullDischarge = full.Discharge
+			if sol.PeakStage, sol.PeakDischarge, err = PeakDischarge(g, opt); err != nil {
+				return sol, err
+			}
+		}
+		roots, err := NormalStages(g, q, opt)
+		if errors.Is(err, ErrNoRoot) && closed {
+			return sol, fmt.Errorf("discharge %g %s is more than the conduit carries part full at slope %g (at most %.4g %s, at stage %.4f %s): %w",
+				q, u.Discharge(), opt.Slope, sol.PeakDischarge, u.Discharge(), sol.PeakStage, u.Length(), ErrNoRoot)
+		}
+		if err != nil {
+			return sol, err
+		}
+		for _, r := range roots {
+			row, err := s.row(r.Stage)
+			if err != nil {
+				return sol, err
+			}
+			sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
+			if row.ExtendedLeft > 0 || row.ExtendedRight > 0 {
+				sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+					"normal stage %.4f %s is above an end of the section: vertical walls were added there", r.Stage, u.Length()))
+			}
+		}
+		if len(roots) > 1 {
+			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+				"discharge does not grow steadily with stage here: %d normal stages carry %g %s; on a falling branch a higher stage carries less",
+				len(roots), q, u.Discharge()))
+		}
+	}
+	crit, err := CriticalStages(g, q, opt)
+	if err != nil {
+		return sol, err
+	}
+	for _, c := range crit {
+		row, err := s.row(c.Stage)
+		if err != nil {
+			return sol, err
+		}
+		e, err := s.energy(c.Stage, q)
+		if err != nil {
+			return sol, err
+		}
+		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e})
+	}
+	if len(crit) > 1 {
+		sol.Warnings = append(sol.Warnings, fmt.Sprintf("%d critical stages: the section is compound, so flow can pass through critical more than once", len(crit)))
+	}
+	if sol.MinEnergy, err = MinSpecificEnergy(g, q, opt); err != nil {
+		return sol, err
+	}
+	return sol, nil
+}

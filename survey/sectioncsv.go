@@ -1,0 +1,51 @@
+package survey
+
+import (
+	"bufio"
+	"io"
+	"strconv"
+	"strings"
+
+	"wetline/subdivide"
+)
+
+// WriteSectionCSV writes a section as a survey CSV that ReadSection reads
+// back to the same section: comment lines (each prefixed "# "), then the
+// columns station, elevation, n (when the section has n per segment) and
+// mark, with "bank" on the points at the bank stations. Numbers are
+// written exactly (shortest form that reads back to the same float64).
+func WriteSectionCSV(w io.Writer, s subdivide.Section, comments []string) error {
+	bw := bufio.NewWriter(w)
+	for _, c := range comments {
+		for _, line := range strings.Split(c, "\n") {
+			bw.WriteString("# " + line + "\n")
+		}
+	}
+	cols := []string{ColStation, ColElevation}
+	if s.N != nil {
+		cols = append(cols, ColN)
+	}
+	cols = append(cols, ColMark)
+	writeRecord(bw, cols)
+	exact := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+	leftDone, rightDone := false, false
+	for i, p := range s.Points {
+		rec := []string{exact(p.Station), exact(p.Elevation)}
+		if s.N != nil {
+			n := ""
+			if i < len(s.N) {
+				n = exact(s.N[i])
+			}
+			rec = append(rec, n)
+		}
+		mark := ""
+		switch {
+		case s.HasBanks && !leftDone && p.Station == s.LeftBank:
+			mark, leftDone = MarkBank, true
+		case s.HasBanks && !rightDone && p.Station == s.RightBank:
+			mark, rightDone = MarkBank, true
+		}
+		writeRecord(bw, append(rec, mark))
+	}
+	return bw.Flush()
+}
