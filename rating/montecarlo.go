@@ -97,6 +97,10 @@ type Uncertainty struct {
 	// discharge (linear interpolation between order statistics); Mean and
 	// SD its mean and standard deviation.
 	P05, P50, P95, Mean, SD float64
+	// WaterSurfaceSD is the standard deviation of each section's water
+	// surface as drawn (length unit), upstream first: the mark standard
+	// deviation over √(marks used).
+	WaterSurfaceSD []float64
 	// DQDN is dQ/dn: the change in discharge per unit change of every n
 	// together (discharge unit per unit n; multiply by 0.001 for a change
 	// of 0.001 in n), by central differences of NStep.
@@ -197,6 +201,7 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 		m.wsSD[i] = sd / math.Sqrt(float64(used[i]))
 		m.nsubs[i] = len(sts[i].w.Subs)
 	}
+	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
 	u.DQDN, u.DQDH = m.sensitivities(sts)
 
 	sigma := math.Sqrt(math.Log1p(u.NCV * u.NCV))

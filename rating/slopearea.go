@@ -233,6 +233,9 @@ type SectionResult struct {
 	Velocity, VelocityHead, EnergyGrade, Froude float64
 	// Subs is each subsection's share; Discharge is Q·Ki/K.
 	Subs []SubRow
+	// Ground is the section's ground line with bank points inserted (nil
+	// when the geometry is not a surveyed *subdivide.Profile).
+	Ground []subdivide.Point
 }
 
 // Subreach is the energy balance between two adjacent sections.
@@ -457,7 +460,9 @@ func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error
 		}
 		sr.FrictionLoss = q * q * l / (sts[j].k * sts[j+1].k)
 		sr.VelocityHeadChange = up.VelocityHead - dn.VelocityHead
-		sr.EddyLoss = sr.EddyK * sr.VelocityHeadChange
+		if expanding {
+			sr.EddyLoss = sr.EddyK * sr.VelocityHeadChange
+		}
 		res.Subreaches = append(res.Subreaches, sr)
 		if math.IsNaN(sr.Discharge) {
 			res.SubreachMin, res.SubreachMax = math.NaN(), math.NaN()
@@ -545,6 +550,9 @@ func fillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int,
 		r.VelocityHead = st.c * q * q / (2 * u.Gravity())
 		r.EnergyGrade = r.WaterSurface + r.VelocityHead
 		r.Froude = FroudeNumber(q, w.Area, w.TopWidth, st.alpha, u)
+		if p, ok := s.Geometry.(*subdivide.Profile); ok {
+			r.Ground = p.Points()
+		}
 		for j, sw := range w.Subs {
 			sr := SubRow{SubWetted: sw, Conveyance: st.subK[j], Velocity: math.NaN()}
 			sr.Discharge = q * st.subK[j] / st.k
@@ -602,11 +610,11 @@ func checkList(res *SlopeArea) []Check {
 			if ratio < 1 {
 				ratio = 1 / ratio
 			}
-			cs = append(cs, Check{Name: "conveyance ratio " + sr.From + "-" + sr.To, Value: ratio,
+			cs = append(cs, Check{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
-			cs = append(cs, Check{Name: "contracting " + sr.From + "-" + sr.To, Value: sr.VelocityHeadChange,
+			cs = append(cs, Check{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}

@@ -293,10 +293,10 @@ func TestSlopeAreaChecks(t *testing.T) {
 	for name, pass := range map[string]bool{
 		"mark spread A":              false,
 		"mark spread B":              true,
-		"contracting A-B":            false,
+		"contracting A to B":         false,
 		"reach length vs mean depth": false,
 		"minimum fall":               false, // fall 0.1 m < 0.15 m
-		"conveyance ratio A-B":       false, // widths 8 and 12
+		"conveyance ratio A to B":    false, // widths 8 and 12
 		"froude A":                   true,
 	} {
 		c, ok := got[name]

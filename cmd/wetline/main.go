@@ -35,6 +35,8 @@ type env struct {
 var commands = map[string]command{
 	"rate": {"compute a stage–discharge table from a surveyed section", runRate},
 	"demo": {"write an invented demo site, its rating and reports to a folder", runDemo},
+
+	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
 }
 
 // usageError marks an error in the command line (exit status 2).
