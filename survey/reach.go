@@ -83,24 +83,18 @@ type Reach struct {
 // a workbook and a sheet has that name, otherwise a file relative to the
 // reach file's folder (CSV, or the first sheet of a workbook).
 func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
+	t, err := ReadTable(path, sheet)
+	if err != nil {
+		return nil, err
+	}
 	var sheets []string
-	var t *Table
 	if IsWorkbook(path) {
 		f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
 		if err != nil {
 			return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
 		}
 		sheets = f.GetSheetList()
-		t, err = SheetTable(f, path, sheet)
 		f.Close()
-		if err != nil {
-			return nil, err
-		}
-	} else {
-		var err error
-		if t, err = ReadTable(path, sheet); err != nil {
-			return nil, err
-		}
 	}
 	r, err := ReachFromTable(t)
 	if err != nil {

@@ -215,12 +215,12 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	line("")
 	line("Peak discharge  %s %s", saSig(r.Discharge), Q)
 	if un := rep.Uncertainty; un != nil {
-		line("  90 %% band      %s to %s %s (5th to 95th percentile, median %s, %d draws)",
+		line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
 			saSig(un.P05), saSig(un.P95), Q, saSig(un.P50), un.Draws-un.Failed)
 	}
 	switch r.Method {
 	case rating.MethodSlopeArea:
-		line("  method        slope-area, all %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
+		line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
 		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", saSig(r.SubreachMin), saSig(r.SubreachMax), Q, saFixed(100*r.SubreachSpread, 1))
 		line("  reach         length %s %s, fall %s %s, water surface from %s marks", saFixed(r.Length, 1), L, saFixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
@@ -244,11 +244,11 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	line("Sections at the peak discharge")
 	rows = rows[:0]
 	for _, s := range r.Sections {
-		rows = append(rows, []string{s.ID, saFixed(s.Bottom, 3), saFixed(s.WaterSurface-s.Bottom, 2), saSig(s.Area), saSig(s.TopWidth),
-			saSig(s.Conveyance), saFixed(s.Alpha, 3), saFixed(s.Velocity, 2), saFixed(s.VelocityHead, 3), saFixed(s.EnergyGrade, 3), saFixed(s.Froude, 2)})
+		rows = append(rows, []string{s.ID, saFixed(s.Bottom, 3), saFixed(s.WaterSurface-s.Bottom, 2), saFixed(s.Area, 2), saFixed(s.TopWidth, 2),
+			saFixed(s.Conveyance, 0), saFixed(s.Alpha, 3), saFixed(s.Velocity, 2), saFixed(s.VelocityHead, 3), saFixed(s.EnergyGrade, 3), saFixed(s.Froude, 2)})
 	}
-	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
-		u.Area(), u.Velocity()), rows)
+	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
+		u.Area(), u.Conveyance(), u.Velocity()), rows)
 
 	if len(r.Subreaches) > 0 {
 		line("")
