@@ -389,3 +389,34 @@ func TestParseSide(t *testing.T) {
 		t.Error("ParseSide(middle): no error")
 	}
 }
+
+// In US customary units the same uniform-flow case uses Manning's 1.486
+// (Chow 1959, eq. 6-9) and the US defaults of the tolerances.
+func TestSlopeAreaUSUnits(t *testing.T) {
+	const b, y, n, f, l = 40.0, 6.0, 0.035, 0.8, 800.0
+	secs := []ReachSection{
+		{ID: "A", Geometry: trapezoid(t, b, 0, 300, 15, n), Distance: 0, Left: 300 + y, Right: 300 + y + 0.6},
+		{ID: "B", Geometry: trapezoid(t, b, 0, 300-f, 15, n), Distance: l, Left: 300 - f + y, Right: 300 - f + y + 0.6},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: US, Side: LeftSide})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, k, _ := trapezoidAKT(b, 0, y, n)
+	if want := 1.486 * k * math.Sqrt(f/l); relErr(res.Discharge, want) > closedFormTol {
+		t.Errorf("Q = %g ft³/s, want %g", res.Discharge, want)
+	}
+	if res.MarkSpread != MarkSpreadUS || res.MinFall != MinFallUS {
+		t.Errorf("tolerances %g %g", res.MarkSpread, res.MinFall)
+	}
+	// Marks 0.6 ft apart exceed the 0.5 ft tolerance.
+	for _, c := range res.Checks {
+		if c.Name == "mark spread A" && c.Pass {
+			t.Error("0.6 ft mark spread passes a 0.5 ft tolerance")
+		}
+	}
+	u, err := MonteCarlo(secs, SlopeAreaOptions{Units: US}, MonteCarloOptions{Draws: 10})
+	if err != nil || u.MarkSD != DefaultMarkSDUS {
+		t.Errorf("US mark SD %g, %v", u.MarkSD, err)
+	}
+}
