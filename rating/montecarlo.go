@@ -17,6 +17,8 @@ import (
 const (
 	// DefaultDraws is the number of Monte Carlo draws.
 	DefaultDraws = 5000
+	// MaxDraws bounds the number of draws (each keeps one discharge).
+	MaxDraws = 10_000_000
 	// DefaultNCV is the coefficient of variation of each subsection's
 	// Manning's n: 0.15 (project default; an assumption about how well n
 	// is judged in the field, to be reviewed).
@@ -177,6 +179,9 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
 	if u.Draws <= 0 {
 		u.Draws = DefaultDraws
+	}
+	if u.Draws > MaxDraws {
+		return Uncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxDraws)
 	}
 	switch {
 	case u.NCV == 0:

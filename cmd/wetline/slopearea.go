@@ -56,8 +56,8 @@ func (f *slopeAreaFlags) check() (rating.Units, rating.Side, error) {
 		return u, side, usageError{err}
 	}
 	switch {
-	case f.draws < 0:
-		return u, side, usagef("--draws %d: want 0 or more", f.draws)
+	case f.draws < 0 || f.draws > rating.MaxDraws:
+		return u, side, usagef("--draws %d: want 0 to %d", f.draws, rating.MaxDraws)
 	case !(f.nCV >= 0) || math.IsInf(f.nCV, 0):
 		return u, side, usagef("--n-cv %v: want 0 or more", f.nCV)
 	case f.markSD < 0 || math.IsInf(f.markSD, 0):
