@@ -53,7 +53,7 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 	r := rep.Result
 	fmt.Fprintf(e.stdout, "  peak discharge %s %s", sig3(r.Discharge), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
-		fmt.Fprintf(e.stdout, ", 90 %% band %s to %s", sig3(u.P05), sig3(u.P95))
+		fmt.Fprintf(e.stdout, ", 90 %% band %s to %s %s", sig3(u.P05), sig3(u.P95), r.Units.Discharge())
 	}
 	fmt.Fprintln(e.stdout)
 	printWarnings(e.stdout, rep.Warnings)

@@ -43,6 +43,9 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&f.format, "format", "", "output format: text or json (default: from the -o extension, else text)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	for _, name := range []string{"mark-spread", "mark-sd"} {
+		fs.Lookup(name).DefValue = "" // the unit's default, stated in the usage text
+	}
 }
 
 // check validates the flags that need no data.
@@ -189,7 +192,7 @@ func summarizeSlopeArea(w io.Writer, rep survey.SlopeAreaReport, path string) {
 	r := rep.Result
 	fmt.Fprintf(w, "wrote %s: %s peak discharge %s %s", path, r.Method, sig3(r.Discharge), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
-		fmt.Fprintf(w, " (90 %% band %s to %s)", sig3(u.P05), sig3(u.P95))
+		fmt.Fprintf(w, " (90 %% band %s to %s %s)", sig3(u.P05), sig3(u.P95), r.Units.Discharge())
 	}
 	warn := 0
 	for _, c := range r.Checks {
