@@ -9,40 +9,6 @@ import (
 	"wetline/subdivide"
 )
 
-// The slope-area method estimates a flood peak from the high-water marks
-// and surveyed cross-sections of a reach of two or more sections
-// (Dalrymple & Benson, 1967). Between an upstream section u and the next
-// section d downstream, the energy equation is
-//
-//	hu + hvu = hd + hvd + hf + k·(hvu − hvd)
-//
-// with h the water-surface elevation, hv = α·Q²/(2g·A²) the velocity head,
-// hf = Q²·L/(Ku·Kd) the friction loss over the subreach length L from the
-// geometric mean of the two conveyances, and k the eddy-loss coefficient:
-// k = 0 where the velocity head rises downstream (a contracting subreach)
-// and k = 0.5 where it falls (an expanding subreach). Since hv ∝ Q² and
-// α, A and K depend on the water surface only, each subreach solves in
-// closed form:
-//
-//	Q² = F / ( L/(Ku·Kd) − (1−k)·(αu/Au² − αd/Ad²)/(2g) )
-//
-// where F = hu − hd is the fall. The whole reach of sections 1…M is solved
-// with all subreaches together by adding the M−1 energy equations: the
-// intermediate water surfaces cancel and
-//
-//	Q² = (h1 − hM) / Σj ( Lj/(Kj·Kj+1) − (1−kj)·(αj/Aj² − αj+1/Aj+1²)/(2g) )
-//
-// which is the multi-section form given by Dalrymple & Benson (1967). The
-// choice of k in each subreach depends only on the geometry (αu/Au² against
-// αd/Ad²), so no iteration is needed.
-//
-// References:
-//
-//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
-//	the slope-area method: U.S. Geological Survey Techniques of
-//	Water-Resources Investigations, book 3, chapter A2.
-//	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
-
 // Eddy-loss coefficients of the slope-area method (Dalrymple & Benson,
 // 1967): none where the flow contracts, half the drop in velocity head
 // where it expands.
@@ -414,9 +380,44 @@ func reachQ(secs []ReachSection, ws []float64, sts []sectionState, u Units) (flo
 }
 
 // SolveSlopeArea computes the peak discharge of a reach of two or more
-// sections by the slope-area method (see the formulation above), the
-// hydraulics of each section and subreach at that discharge, and the
-// quality checks. Sections are given upstream first.
+// sections by the slope-area method, the hydraulics of each section and
+// subreach at that discharge, and the quality checks. Sections are given
+// upstream first; each water surface comes from the section's marks
+// (SlopeAreaOptions.Side).
+//
+// The slope-area method estimates a flood peak from the high-water marks
+// and surveyed cross-sections of a reach of two or more sections
+// (Dalrymple & Benson, 1967). Between an upstream section u and the next
+// section d downstream, the energy equation is
+//
+//	hu + hvu = hd + hvd + hf + k·(hvu − hvd)
+//
+// with h the water-surface elevation, hv = α·Q²/(2g·A²) the velocity head,
+// hf = Q²·L/(Ku·Kd) the friction loss over the subreach length L from the
+// geometric mean of the two conveyances, and k the eddy-loss coefficient:
+// k = 0 where the velocity head rises downstream (a contracting subreach)
+// and k = 0.5 where it falls (an expanding subreach). Since hv ∝ Q² and
+// α, A and K depend on the water surface only, each subreach solves in
+// closed form:
+//
+//	Q² = F / ( L/(Ku·Kd) − (1−k)·(αu/Au² − αd/Ad²)/(2g) )
+//
+// where F = hu − hd is the fall. The whole reach of sections 1…M is solved
+// with all subreaches together by adding the M−1 energy equations: the
+// intermediate water surfaces cancel and
+//
+//	Q² = (h1 − hM) / Σj ( Lj/(Kj·Kj+1) − (1−kj)·(αj/Aj² − αj+1/Aj+1²)/(2g) )
+//
+// the multi-section form of Dalrymple & Benson (1967; from memory). The
+// choice of k in each subreach depends only on the geometry (αu/Au² against
+// αd/Ad²), so no iteration is needed.
+//
+// References:
+//
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
+//	the slope-area method: U.S. Geological Survey Techniques of
+//	Water-Resources Investigations, book 3, chapter A2.
+//	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
 //
 // Errors are *SectionError for a section at fault (distance not
 // increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
