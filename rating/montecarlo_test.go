@@ -182,3 +182,36 @@ func BenchmarkMonteCarlo5000(b *testing.B) {
 		}
 	}
 }
+
+// A section's own mark standard deviation (from a poor quality rating)
+// widens its water surface's spread and the band; two marks halve the
+// variance of their mean.
+func TestMonteCarloMarkSD(t *testing.T) {
+	secs := threeSections(t)
+	base, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := DefaultMarkSDSI / math.Sqrt2; relErr(base.WaterSurfaceSD[0], want) > closedFormTol {
+		t.Errorf("water-surface SD %g, want %g", base.WaterSurfaceSD[0], want)
+	}
+	poor, _ := QualitySD("poor", SI)
+	secs[0].MarkSD = poor
+	wide, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if relErr(wide.WaterSurfaceSD[0], poor/math.Sqrt2) > closedFormTol || !(wide.P95-wide.P05 > base.P95-base.P05) {
+		t.Errorf("poor marks at XS1: SD %g, band %g vs %g", wide.WaterSurfaceSD[0], wide.P95-wide.P05, base.P95-base.P05)
+	}
+}
+
+// BenchmarkMonteCarlo5000Parallel is the same on GOMAXPROCS goroutines.
+func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
+	secs := threeSections(b)
+	for b.Loop() {
+		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
