@@ -8,9 +8,9 @@ import (
 	"wetline/subdivide"
 )
 
-// rectangle returns a rectangular channel of width b with bed at bed and
+// saRectangle returns a rectangular channel of width b with bed at bed and
 // Manning's n.
-func rectangle(b, bed, n float64) subdivide.Geometry {
+func saRectangle(b, bed, n float64) subdivide.Geometry {
 	p, err := subdivide.Compile(subdivide.Section{
 		Points: []subdivide.Point{
 			{Station: 0, Elevation: bed + 5}, {Station: 0, Elevation: bed},
@@ -29,8 +29,8 @@ func rectangle(b, bed, n float64) subdivide.Geometry {
 // rectangles (α = 1): Q² = F / (L/(K1K2) − 0.5·(1/A1² − 1/A2²)/(2g)).
 func ExampleSolveSlopeArea() {
 	secs := []rating.ReachSection{
-		{ID: "upper", Geometry: rectangle(10, 100, 0.03), Distance: 0, Left: 102.0, Right: 102.04},
-		{ID: "lower", Geometry: rectangle(14, 99.9, 0.03), Distance: 150, Left: 101.8, Right: math.NaN()},
+		{ID: "upper", Geometry: saRectangle(10, 100, 0.03), Distance: 0, Left: 102.0, Right: 102.04},
+		{ID: "lower", Geometry: saRectangle(14, 99.9, 0.03), Distance: 150, Left: 101.8, Right: math.NaN()},
 	}
 	res, err := rating.SolveSlopeArea(secs, rating.SlopeAreaOptions{})
 	if err != nil {

@@ -115,8 +115,8 @@ type Uncertainty struct {
 	Samples []float64
 }
 
-// mcModel is a reach prepared for repeated evaluation.
-type mcModel struct {
+// saModel is a reach prepared for repeated evaluation.
+type saModel struct {
 	secs  []ReachSection
 	ws    []float64 // water surfaces from the marks
 	wsSD  []float64 // standard deviation of each water surface
@@ -124,16 +124,16 @@ type mcModel struct {
 	opt   SlopeAreaOptions
 }
 
-// scratch is one goroutine's working space.
-type scratch struct {
+// saScratch is one goroutine's working space.
+type saScratch struct {
 	ws   []float64
 	nmul [][]float64
-	sts  []sectionState
+	sts  []saSectionState
 }
 
-func (m *mcModel) newScratch() *scratch {
-	s := &scratch{ws: make([]float64, len(m.secs)), nmul: make([][]float64, len(m.secs)),
-		sts: make([]sectionState, len(m.secs))}
+func (m *saModel) newSAScratch() *saScratch {
+	s := &saScratch{ws: make([]float64, len(m.secs)), nmul: make([][]float64, len(m.secs)),
+		sts: make([]saSectionState, len(m.secs))}
 	for i, n := range m.nsubs {
 		s.nmul[i] = make([]float64, n)
 		for j := range s.nmul[i] {
@@ -143,14 +143,14 @@ func (m *mcModel) newScratch() *scratch {
 	return s
 }
 
-// eval solves the reach with the scratch's water surfaces and n factors.
-func (m *mcModel) eval(s *scratch) (float64, error) {
+// eval solves the reach with the scratch space's water surfaces and n factors.
+func (m *saModel) eval(s *saScratch) (float64, error) {
 	for i, sec := range m.secs {
-		if err := state(sec.Geometry, s.ws[i], s.nmul[i], m.opt.Geometry, m.opt.Units, &s.sts[i]); err != nil {
+		if err := saState(sec.Geometry, s.ws[i], s.nmul[i], m.opt.Geometry, m.opt.Units, &s.sts[i]); err != nil {
 			return math.NaN(), err
 		}
 	}
-	return reachQ(m.secs, s.ws, s.sts, m.opt.Units)
+	return saReachQ(m.secs, s.ws, s.sts, m.opt.Units)
 }
 
 // MonteCarlo estimates the uncertainty of the slope-area discharge of a
@@ -169,11 +169,11 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 	if len(secs) < 2 {
 		return Uncertainty{}, ErrTooFewSections
 	}
-	ws, used, sts, err := prepare(secs, opt, &res)
+	ws, used, sts, err := saPrepare(secs, opt, &res)
 	if err != nil {
 		return Uncertainty{}, err
 	}
-	if _, err := reachQ(secs, ws, sts, opt.Units); err != nil {
+	if _, err := saReachQ(secs, ws, sts, opt.Units); err != nil {
 		return Uncertainty{}, err
 	}
 	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
@@ -197,7 +197,7 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 	case u.MarkSD < 0:
 		u.MarkSD = 0
 	}
-	m := &mcModel{secs: secs, ws: ws, wsSD: make([]float64, len(secs)), nsubs: make([]int, len(secs)), opt: opt}
+	m := &saModel{secs: secs, ws: ws, wsSD: make([]float64, len(secs)), nsubs: make([]int, len(secs)), opt: opt}
 	for i, s := range secs {
 		sd := u.MarkSD
 		if s.MarkSD > 0 && mc.MarkSD >= 0 {
@@ -227,7 +227,7 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			s := m.newScratch()
+			s := m.newSAScratch()
 			for c := range next {
 				rng := rand.New(rand.NewPCG(mc.Seed, uint64(c)))
 				for d := c * ChunkDraws; d < min((c+1)*ChunkDraws, u.Draws); d++ {
@@ -269,8 +269,8 @@ func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions)
 
 // sensitivities returns dQ/dn (every n changed by the same amount) and
 // dQ/dh for each water surface, by central differences.
-func (m *mcModel) sensitivities(base []sectionState) (dqdn float64, dqdh []float64) {
-	s := m.newScratch()
+func (m *saModel) sensitivities(base []saSectionState) (dqdn float64, dqdh []float64) {
+	s := m.newSAScratch()
 	copy(s.ws, m.ws)
 	qAt := func() float64 {
 		v, err := m.eval(s)
@@ -310,5 +310,5 @@ func (m *mcModel) sensitivities(base []sectionState) (dqdn float64, dqdh []float
 // String summarises the band, e.g. "p05 410, p50 452, p95 497 (5000 draws)".
 func (u Uncertainty) String() string {
 	return fmt.Sprintf("p05 %s, p50 %s, p95 %s (%d draws, %d failed)",
-		fmtSig(u.P05), fmtSig(u.P50), fmtSig(u.P95), u.Draws, u.Failed)
+		saSig(u.P05), saSig(u.P50), saSig(u.P95), u.Draws, u.Failed)
 }

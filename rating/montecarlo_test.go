@@ -8,10 +8,10 @@ import (
 	"wetline/subdivide"
 )
 
-// compound returns an irregular compound section of 25 points with
+// saCompound returns an irregular compound section of 25 points with
 // overbanks, bank stations and three n values; bed is its lowest elevation
 // and widen stretches it sideways.
-func compound(t testing.TB, bed, widen float64) subdivide.Geometry {
+func saCompound(t testing.TB, bed, widen float64) subdivide.Geometry {
 	t.Helper()
 	shape := [][2]float64{
 		{0, 4.8}, {8, 3.9}, {18, 3.2}, {30, 2.9}, {40, 2.7}, {46, 2.5}, {48, 1.6}, {50, 0.9}, {53, 0.4},
@@ -40,18 +40,18 @@ func compound(t testing.TB, bed, widen float64) subdivide.Geometry {
 	return g
 }
 
-// threeSections is a three-section compound reach, contracting then
+// saThreeSections is a three-section compound reach, contracting then
 // expanding, with both marks at every section.
-func threeSections(t testing.TB) []ReachSection {
+func saThreeSections(t testing.TB) []ReachSection {
 	return []ReachSection{
-		{ID: "XS1", Geometry: compound(t, 100.0, 1.1), Distance: 0, Left: 103.42, Right: 103.36},
-		{ID: "XS2", Geometry: compound(t, 99.85, 0.9), Distance: 160, Left: 103.22, Right: 103.18},
-		{ID: "XS3", Geometry: compound(t, 99.7, 1.0), Distance: 330, Left: 102.95, Right: 102.99},
+		{ID: "XS1", Geometry: saCompound(t, 100.0, 1.1), Distance: 0, Left: 103.42, Right: 103.36},
+		{ID: "XS2", Geometry: saCompound(t, 99.85, 0.9), Distance: 160, Left: 103.22, Right: 103.18},
+		{ID: "XS3", Geometry: saCompound(t, 99.7, 1.0), Distance: 330, Left: 102.95, Right: 102.99},
 	}
 }
 
 func TestMonteCarloReproducible(t *testing.T) {
-	secs := threeSections(t)
+	secs := saThreeSections(t)
 	a, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
 	if err != nil {
 		t.Fatal(err)
@@ -77,7 +77,7 @@ func TestMonteCarloReproducible(t *testing.T) {
 
 // With no spread every draw is the deterministic discharge.
 func TestMonteCarloZeroSpread(t *testing.T) {
-	secs := threeSections(t)
+	secs := saThreeSections(t)
 	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -90,21 +90,21 @@ func TestMonteCarloZeroSpread(t *testing.T) {
 		t.Fatalf("%d failed, %d samples", u.Failed, len(u.Samples))
 	}
 	for _, q := range []float64{u.Samples[0], u.Samples[299], u.P05, u.P50, u.P95} {
-		if relErr(q, det.Discharge) > closedFormTol {
+		if saRelErr(q, det.Discharge) > saClosedFormTol {
 			t.Fatalf("zero-spread draw %.12g, deterministic %.12g", q, det.Discharge)
 		}
 	}
 }
 
-// medianTol is the relative distance allowed between the Monte Carlo
+// saMedianTol is the relative distance allowed between the Monte Carlo
 // median and the deterministic discharge. n is drawn with its median at the
 // surveyed value and Q is nearly proportional to 1/n, so the median of Q
 // sits near the deterministic Q; the marks add a small bias through √fall
 // (a statistical property of the method; common practice).
-const medianTol = 0.03
+const saMedianTol = 0.03
 
 func TestMonteCarloMedian(t *testing.T) {
-	secs := threeSections(t)
+	secs := saThreeSections(t)
 	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -113,7 +113,7 @@ func TestMonteCarloMedian(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if relErr(u.P50, det.Discharge) > medianTol {
+	if saRelErr(u.P50, det.Discharge) > saMedianTol {
 		t.Errorf("median %g, deterministic %g", u.P50, det.Discharge)
 	}
 	if !(u.P05 < u.P50 && u.P50 < u.P95) {
@@ -139,8 +139,8 @@ func TestMonteCarloMedian(t *testing.T) {
 func TestMonteCarloSensitivities(t *testing.T) {
 	const n = 0.04
 	secs := []ReachSection{
-		{ID: "A", Geometry: trapezoid(t, 10, 2, 100, 5, n), Distance: 0, Left: 102, Right: math.NaN()},
-		{ID: "B", Geometry: trapezoid(t, 10, 2, 99.7, 5, n), Distance: 250, Left: 101.7, Right: math.NaN()},
+		{ID: "A", Geometry: saTrapezoid(t, 10, 2, 100, 5, n), Distance: 0, Left: 102, Right: math.NaN()},
+		{ID: "B", Geometry: saTrapezoid(t, 10, 2, 99.7, 5, n), Distance: 250, Left: 101.7, Right: math.NaN()},
 	}
 	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
 	if err != nil {
@@ -151,7 +151,7 @@ func TestMonteCarloSensitivities(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Central differences of step 0.001 about n = 0.04: error O((Δn/n)²) ≈ 1e-3.
-	if want := -det.Discharge / n; relErr(u.DQDN, want) > 1e-3 {
+	if want := -det.Discharge / n; saRelErr(u.DQDN, want) > 1e-3 {
 		t.Errorf("dQ/dn = %g, want −Q/n = %g", u.DQDN, want)
 	}
 	if !(u.DQDH[0] > 0 && u.DQDH[1] < 0) {
@@ -164,7 +164,7 @@ func TestQualitySD(t *testing.T) {
 	if sd, ok := QualitySD("Good", US); !ok || sd != 0.10 {
 		t.Errorf("good = %g %v", sd, ok)
 	}
-	if sd, ok := QualitySD("poor", SI); !ok || relErr(sd, 0.40*0.3048) > closedFormTol {
+	if sd, ok := QualitySD("poor", SI); !ok || saRelErr(sd, 0.40*0.3048) > saClosedFormTol {
 		t.Errorf("poor SI = %g %v", sd, ok)
 	}
 	if _, ok := QualitySD("splendid", SI); ok {
@@ -175,7 +175,7 @@ func TestQualitySD(t *testing.T) {
 // BenchmarkMonteCarlo5000 measures 5 000 draws for a three-section
 // compound reach of 25-point sections on one goroutine.
 func BenchmarkMonteCarlo5000(b *testing.B) {
-	secs := threeSections(b)
+	secs := saThreeSections(b)
 	for b.Loop() {
 		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
 			b.Fatal(err)
@@ -187,12 +187,12 @@ func BenchmarkMonteCarlo5000(b *testing.B) {
 // widens its water surface's spread and the band; two marks halve the
 // variance of their mean.
 func TestMonteCarloMarkSD(t *testing.T) {
-	secs := threeSections(t)
+	secs := saThreeSections(t)
 	base, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := DefaultMarkSDSI / math.Sqrt2; relErr(base.WaterSurfaceSD[0], want) > closedFormTol {
+	if want := DefaultMarkSDSI / math.Sqrt2; saRelErr(base.WaterSurfaceSD[0], want) > saClosedFormTol {
 		t.Errorf("water-surface SD %g, want %g", base.WaterSurfaceSD[0], want)
 	}
 	poor, _ := QualitySD("poor", SI)
@@ -201,14 +201,14 @@ func TestMonteCarloMarkSD(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if relErr(wide.WaterSurfaceSD[0], poor/math.Sqrt2) > closedFormTol || !(wide.P95-wide.P05 > base.P95-base.P05) {
+	if saRelErr(wide.WaterSurfaceSD[0], poor/math.Sqrt2) > saClosedFormTol || !(wide.P95-wide.P05 > base.P95-base.P05) {
 		t.Errorf("poor marks at XS1: SD %g, band %g vs %g", wide.WaterSurfaceSD[0], wide.P95-wide.P05, base.P95-base.P05)
 	}
 }
 
 // BenchmarkMonteCarlo5000Parallel is the same on GOMAXPROCS goroutines.
 func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
-	secs := threeSections(b)
+	secs := saThreeSections(b)
 	for b.Loop() {
 		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
 			b.Fatal(err)

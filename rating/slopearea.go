@@ -276,9 +276,9 @@ func (e *SectionError) Error() string {
 
 func (e *SectionError) Unwrap() error { return e.Err }
 
-// waterSurface returns a section's water surface from its marks, the
+// saWaterSurface returns a section's water surface from its marks, the
 // number of marks used, and a warning when the chosen side was missing.
-func waterSurface(s ReachSection, side Side) (ws float64, used int, warn string) {
+func saWaterSurface(s ReachSection, side Side) (ws float64, used int, warn string) {
 	l, r := s.Left, s.Right
 	hasL, hasR := finiteAll(l), finiteAll(r)
 	switch {
@@ -304,17 +304,17 @@ func waterSurface(s ReachSection, side Side) (ws float64, used int, warn string)
 	return math.NaN(), 0, ""
 }
 
-// sectionState is the hydraulic state of a section at a water surface.
-type sectionState struct {
+// saSectionState is the hydraulic state of a section at a water surface.
+type saSectionState struct {
 	w        subdivide.Wetted
 	k, alpha float64
 	c        float64 // α/A², so that hv = c·Q²/(2g)
 	subK     []float64
 }
 
-// state wets a section at ws, with each subsection's n multiplied by
+// saState wets a section at ws, with each subsection's n multiplied by
 // nmul[i] (nil for none).
-func state(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Options, u Units, st *sectionState) error {
+func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Options, u Units, st *saSectionState) error {
 	w, err := g.At(ws, gopt)
 	if err != nil {
 		return err
@@ -351,9 +351,9 @@ func state(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Opti
 	return nil
 }
 
-// subreachTerm returns the denominator term of one subreach,
+// saSubreachTerm returns the denominator term of one subreach,
 // L/(Ku·Kd) − (1−k)·(cu − cd)/(2g), and whether it expands.
-func subreachTerm(l float64, up, dn *sectionState, u Units) (term float64, expanding bool) {
+func saSubreachTerm(l float64, up, dn *saSectionState, u Units) (term float64, expanding bool) {
 	expanding = up.c > dn.c
 	k := ContractingEddyK
 	if expanding {
@@ -362,11 +362,11 @@ func subreachTerm(l float64, up, dn *sectionState, u Units) (term float64, expan
 	return l/(up.k*dn.k) - (1-k)*(up.c-dn.c)/(2*u.Gravity()), expanding
 }
 
-// reachQ solves the whole reach for the water surfaces ws and states sts.
-func reachQ(secs []ReachSection, ws []float64, sts []sectionState, u Units) (float64, error) {
+// saReachQ solves the whole reach for the water surfaces ws and states sts.
+func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) (float64, error) {
 	var den float64
 	for j := 0; j+1 < len(secs); j++ {
-		t, _ := subreachTerm(secs[j+1].Distance-secs[j].Distance, &sts[j], &sts[j+1], u)
+		t, _ := saSubreachTerm(secs[j+1].Distance-secs[j].Distance, &sts[j], &sts[j+1], u)
 		den += t
 	}
 	fall := ws[0] - ws[len(ws)-1]
@@ -429,7 +429,7 @@ func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error
 	if len(secs) < 2 {
 		return res, ErrTooFewSections
 	}
-	ws, used, sts, err := prepare(secs, opt, &res)
+	ws, used, sts, err := saPrepare(secs, opt, &res)
 	if err != nil {
 		return res, err
 	}
@@ -439,17 +439,17 @@ func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error
 		return res, fmt.Errorf("%w: %s at %.3f %s, %s at %.3f %s", ErrFall,
 			secs[0].ID, ws[0], u.Length(), secs[len(secs)-1].ID, ws[len(ws)-1], u.Length())
 	}
-	q, err := reachQ(secs, ws, sts, u)
+	q, err := saReachQ(secs, ws, sts, u)
 	if err != nil {
 		return res, err
 	}
 	res.Discharge = q
-	fillSections(&res, secs, ws, used, sts, q)
+	saFillSections(&res, secs, ws, used, sts, q)
 	res.SubreachMin, res.SubreachMax = math.Inf(1), math.Inf(-1)
 	for j := 0; j+1 < len(secs); j++ {
 		up, dn := &res.Sections[j], &res.Sections[j+1]
 		l := secs[j+1].Distance - secs[j].Distance
-		term, expanding := subreachTerm(l, &sts[j], &sts[j+1], u)
+		term, expanding := saSubreachTerm(l, &sts[j], &sts[j+1], u)
 		sr := Subreach{From: secs[j].ID, To: secs[j+1].ID, FromIndex: j, ToIndex: j + 1,
 			Length: l, Fall: ws[j] - ws[j+1], Expanding: expanding, Discharge: math.NaN(),
 			ConveyanceRatio: sts[j+1].k / sts[j].k}
@@ -479,26 +479,26 @@ func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error
 	if res.SubreachSpread > SubreachSpreadWarn {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
 			"the subreach discharges spread by %.0f %% of the reach discharge (%s to %s %s): review the marks and n values",
-			100*res.SubreachSpread, fmtSig(res.SubreachMin), fmtSig(res.SubreachMax), u.Discharge()))
+			100*res.SubreachSpread, saSig(res.SubreachMin), saSig(res.SubreachMax), u.Discharge()))
 	}
-	res.Checks = reachChecks(&res)
+	res.Checks = saChecks(&res)
 	return res, nil
 }
 
-func fmtSig(v float64) string {
+func saSig(v float64) string {
 	if math.IsNaN(v) {
 		return "-"
 	}
 	return fmt.Sprintf("%.4g", v)
 }
 
-// prepare validates the sections, takes their water surfaces and wets
+// saPrepare validates the sections, takes their water surfaces and wets
 // them. Warnings about marks and end extension go on res.
-func prepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []float64, used []int, sts []sectionState, err error) {
+func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []float64, used []int, sts []saSectionState, err error) {
 	u := opt.Units
 	ws = make([]float64, len(secs))
 	used = make([]int, len(secs))
-	sts = make([]sectionState, len(secs))
+	sts = make([]saSectionState, len(secs))
 	for i, s := range secs {
 		if s.Geometry == nil {
 			return nil, nil, nil, &SectionError{i, s.ID, "geometry", errors.New("no geometry")}
@@ -510,7 +510,7 @@ func prepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []fl
 			return nil, nil, nil, &SectionError{i, s.ID, "distance",
 				fmt.Errorf("%w: %g after %g", ErrDistances, s.Distance, secs[i-1].Distance)}
 		}
-		h, n, warn := waterSurface(s, opt.Side)
+		h, n, warn := saWaterSurface(s, opt.Side)
 		if n == 0 {
 			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", ErrNoMark}
 		}
@@ -518,7 +518,7 @@ func prepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []fl
 			res.Warnings = append(res.Warnings, warn)
 		}
 		ws[i], used[i] = h, n
-		if err := state(s.Geometry, h, nil, opt.Geometry, u, &sts[i]); err != nil {
+		if err := saState(s.Geometry, h, nil, opt.Geometry, u, &sts[i]); err != nil {
 			if errors.Is(err, ErrDrySection) {
 				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
 					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
@@ -536,8 +536,8 @@ func prepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []fl
 	return ws, used, sts, nil
 }
 
-// fillSections sets each section's hydraulics at discharge q.
-func fillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int, sts []sectionState, q float64) {
+// saFillSections sets each section's hydraulics at discharge q.
+func saFillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int, sts []saSectionState, q float64) {
 	u := res.Units
 	res.Sections = make([]SectionResult, len(secs))
 	for i, s := range secs {
@@ -577,20 +577,20 @@ const (
 	srcMarks     = "left and right marks within the mark-spread tolerance (project default, common practice)"
 )
 
-// reachChecks evaluates the quality criteria of a solved reach and adds a
+// saChecks evaluates the quality criteria of a solved reach and adds a
 // warning for each that fails.
-func reachChecks(res *SlopeArea) []Check {
-	cs := checkList(res)
+func saChecks(res *SlopeArea) []Check {
+	cs := saCheckList(res)
 	for _, c := range cs {
 		if !c.Pass {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("check %s: %s %s %s fails (%s)",
-				c.Name, fmtSig(c.Value), c.Relation, fmtSig(c.Limit), c.Source))
+				c.Name, saSig(c.Value), c.Relation, saSig(c.Limit), c.Source))
 		}
 	}
 	return cs
 }
 
-func checkList(res *SlopeArea) []Check {
+func saCheckList(res *SlopeArea) []Check {
 	var cs []Check
 	maxHV, meanD := 0.0, 0.0
 	for _, s := range res.Sections {
@@ -629,14 +629,14 @@ func checkList(res *SlopeArea) []Check {
 		}
 		d := math.Abs(s.Left - s.Right)
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
-			Pass: d <= res.MarkSpread*(1+markSpreadEpsilon), Source: srcMarks})
+			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
 	}
 	return cs
 }
 
-// markSpreadEpsilon is the relative slack given to the mark-spread
+// MarkSpreadEpsilon is the relative slack given to the mark-spread
 // tolerance so that a spread equal to it in the written decimals passes.
-const markSpreadEpsilon = 1e-9
+const MarkSpreadEpsilon = 1e-9
 
 // SlopeConveyance is the single-section fallback: Q = K·√S with the given
 // friction slope s (dimensionless) and the section's conveyance at its
@@ -656,13 +656,13 @@ func SlopeConveyance(sec ReachSection, s float64, opt SlopeAreaOptions) (SlopeAr
 	}
 	res.Warnings = append(res.Warnings, "single-section slope-conveyance estimate Q = K·√S with an assumed slope: "+
 		"a weaker method than the slope-area method (no measured fall, no velocity-head change)")
-	ws, used, sts, err := prepare([]ReachSection{sec}, opt, &res)
+	ws, used, sts, err := saPrepare([]ReachSection{sec}, opt, &res)
 	if err != nil {
 		return res, err
 	}
 	q := sts[0].k * math.Sqrt(s)
 	res.Discharge = q
-	fillSections(&res, []ReachSection{sec}, ws, used, sts, q)
-	res.Checks = reachChecks(&res)
+	saFillSections(&res, []ReachSection{sec}, ws, used, sts, q)
+	res.Checks = saChecks(&res)
 	return res, nil
 }

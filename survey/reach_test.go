@@ -14,7 +14,7 @@ import (
 	"wetline/rating"
 )
 
-const testSurveyCSV = `station,elevation,n,mark
+const reachSurveyCSV = `station,elevation,n,mark
 0,12,0.05,
 10,10.5,0.04,bank
 14,9,0.04,
@@ -22,8 +22,8 @@ const testSurveyCSV = `station,elevation,n,mark
 30,12,,
 `
 
-// writeFiles writes name → content into a new temporary folder.
-func writeFiles(t *testing.T, files map[string]string) string {
+// reachFiles writes name → content into a new temporary folder.
+func reachFiles(t *testing.T, files map[string]string) string {
 	t.Helper()
 	dir := t.TempDir()
 	for name, text := range files {
@@ -35,14 +35,14 @@ func writeFiles(t *testing.T, files map[string]string) string {
 }
 
 func TestReadReachCSV(t *testing.T) {
-	dir := writeFiles(t, map[string]string{
+	dir := reachFiles(t, map[string]string{
 		"reach.csv": "# a reach\nSection,Survey,Distance (m),WS_Left,ws_right,quality,note\n" +
 			"A,a.csv,0,10.9,10.8,Good,upstream\n" +
 			"B,sub/b.csv,120.5,,10.6,,\n",
-		"a.csv": testSurveyCSV,
+		"a.csv": reachSurveyCSV,
 	})
 	os.Mkdir(filepath.Join(dir, "sub"), 0o755)
-	os.WriteFile(filepath.Join(dir, "sub", "b.csv"), []byte(testSurveyCSV), 0o644)
+	os.WriteFile(filepath.Join(dir, "sub", "b.csv"), []byte(reachSurveyCSV), 0o644)
 	r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -76,9 +76,9 @@ func TestReadReachCSV(t *testing.T) {
 	}
 }
 
-// writeWorkbook writes a workbook with the given sheets (first row the
+// reachWorkbook writes a workbook with the given sheets (first row the
 // header) and returns its path.
-func writeWorkbook(t *testing.T, dir string, sheets map[string][][]any, order []string) string {
+func reachWorkbook(t *testing.T, dir string, sheets map[string][][]any, order []string) string {
 	t.Helper()
 	f := excelize.NewFile()
 	defer f.Close()
@@ -103,9 +103,9 @@ func writeWorkbook(t *testing.T, dir string, sheets map[string][][]any, order []
 }
 
 func TestReadReachWorkbook(t *testing.T) {
-	dir := writeFiles(t, map[string]string{"xs3.csv": testSurveyCSV})
+	dir := reachFiles(t, map[string]string{"xs3.csv": reachSurveyCSV})
 	surveyRows := [][]any{{"station", "elevation", "n"}, {0, 12, 0.05}, {10, 10, 0.04}, {14, 9, 0.04}, {20, 10.4, 0.06}, {30, 12, nil}}
-	path := writeWorkbook(t, dir, map[string][][]any{
+	path := reachWorkbook(t, dir, map[string][][]any{
 		"notes": {{"field notes"}},
 		"reach": {
 			{"section", "survey", "distance", "ws_left", "ws_right"},
@@ -126,7 +126,7 @@ func TestReadReachWorkbook(t *testing.T) {
 		t.Errorf("survey 2 = %+v", r.Surveys[1])
 	}
 	// An unknown sheet name is looked for as a file, and reported at the cell.
-	path2 := writeWorkbook(t, t.TempDir(), map[string][][]any{
+	path2 := reachWorkbook(t, t.TempDir(), map[string][][]any{
 		"reach": {{"section", "survey", "distance", "ws_left", "ws_right"}, {"XS1", "XS-9", 0, 11.0, nil}},
 	}, []string{"reach"})
 	_, err = ReadReach(path2, "", SectionOptions{})
@@ -158,7 +158,7 @@ func TestReachErrors(t *testing.T) {
 		{"bad survey", head + "A,bad.csv,0,10,,\n", ErrNotNumber, "bad.csv:2:2"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			dir := writeFiles(t, map[string]string{"reach.csv": tc.reach, "a.csv": testSurveyCSV,
+			dir := reachFiles(t, map[string]string{"reach.csv": tc.reach, "a.csv": reachSurveyCSV,
 				"bad.csv": "station,elevation,n\n0,x,0.03\n5,1,\n"})
 			_, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
 			if !errors.Is(err, tc.want) {
@@ -172,7 +172,7 @@ func TestReachErrors(t *testing.T) {
 }
 
 func TestReachSectionsNoN(t *testing.T) {
-	dir := writeFiles(t, map[string]string{
+	dir := reachFiles(t, map[string]string{
 		"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,10,\nB,a.csv,10,9.9,\n",
 		"a.csv":     "station,elevation\n0,11\n5,8\n10,11\n",
 	})
@@ -187,9 +187,9 @@ func TestReachSectionsNoN(t *testing.T) {
 
 // A section error of the computation is placed on the reach table's cell.
 func TestReachSectionErrorPosition(t *testing.T) {
-	dir := writeFiles(t, map[string]string{
+	dir := reachFiles(t, map[string]string{
 		"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,10.5,\nB,a.csv,10,8.5,\n",
-		"a.csv":     testSurveyCSV,
+		"a.csv":     reachSurveyCSV,
 	})
 	r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
 	if err != nil {

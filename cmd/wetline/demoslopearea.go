@@ -32,7 +32,7 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 		}
 	}
 	f := slopeAreaFlags{units: "si", side: "mean", draws: 5000, seed: 1, nCV: 0.15}
-	f.markSpread, f.markSD = nan(), nan()
+	f.markSpread, f.markSD = saNaN(), saNaN()
 	rep, inputs, err := slopeArea(path, &f)
 	if err != nil {
 		return err

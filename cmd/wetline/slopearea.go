@@ -205,4 +205,4 @@ func summarizeSlopeArea(w io.Writer, rep survey.SlopeAreaReport, path string) {
 	fmt.Fprintln(w, "caution: "+survey.Caution)
 }
 
-func nan() float64 { return math.NaN() }
+func saNaN() float64 { return math.NaN() }

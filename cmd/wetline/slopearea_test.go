@@ -23,14 +23,14 @@ func init() {
 	}
 }
 
-func updating() bool {
+func saUpdating() bool {
 	f := flag.Lookup("update")
 	return f != nil && f.Value.String() == "true"
 }
 
-// runArgs runs the program with buffers and returns stdout, stderr and
+// saRun runs the program with buffers and returns stdout, stderr and
 // the exit status.
-func runArgs(t *testing.T, args ...string) (string, string, int) {
+func saRun(t *testing.T, args ...string) (string, string, int) {
 	t.Helper()
 	var out, errb bytes.Buffer
 	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
@@ -38,10 +38,10 @@ func runArgs(t *testing.T, args ...string) (string, string, int) {
 	return out.String(), errb.String(), code
 }
 
-func golden(t *testing.T, name, got string) {
+func saGolden(t *testing.T, name, got string) {
 	t.Helper()
 	path := filepath.Join("testdata", name)
-	if updating() {
+	if saUpdating() {
 		if err := os.MkdirAll("testdata", 0o755); err != nil {
 			t.Fatal(err)
 		}
@@ -59,7 +59,7 @@ func golden(t *testing.T, name, got string) {
 }
 
 func TestSlopeAreaTextGolden(t *testing.T) {
-	out, errs, code := runArgs(t, "slopearea", "demodata/reach-brindle.csv")
+	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -68,12 +68,12 @@ func TestSlopeAreaTextGolden(t *testing.T) {
 			t.Errorf("report lacks %q", want)
 		}
 	}
-	golden(t, "slopearea-brindle.golden", out)
+	saGolden(t, "slopearea-brindle.golden", out)
 }
 
 // The JSON form holds at least the fields of the published contract.
 func TestSlopeAreaJSONContract(t *testing.T) {
-	out, errs, code := runArgs(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
+	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -143,7 +143,7 @@ func TestSlopeAreaBadReach(t *testing.T) {
 			}
 			out := filepath.Join(dir, "out.json")
 			args := append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "-o", out}, tc.flags...)
-			stdout, stderr, code := runArgs(t, args...)
+			stdout, stderr, code := saRun(t, args...)
 			if code != tc.code {
 				t.Fatalf("exit %d, want %d: %s", code, tc.code, stderr)
 			}
@@ -169,7 +169,7 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 	dir := t.TempDir()
 	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,\n"), 0o644)
 	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
-	out, errs, code := runArgs(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001")
+	out, errs, code := saRun(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -186,7 +186,7 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 func TestSlopeAreaOutputFile(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "report.json")
-	_, errs, code := runArgs(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
+	_, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -199,7 +199,7 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 	}
 	// Never over an input.
 	before, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
-	_, errs, code = runArgs(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
+	_, errs, code = saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
 	after, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
 	if code != 1 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
 		t.Errorf("overwrite of an input: exit %d %s", code, errs)
@@ -208,7 +208,7 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 
 func TestDemoWritesSlopeArea(t *testing.T) {
 	dir := t.TempDir()
-	out, errs, code := runArgs(t, "demo", "-o", dir)
+	out, errs, code := saRun(t, "demo", "-o", dir)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -225,7 +225,7 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 		}
 	}
 	// The written reach reads back to the same discharge.
-	out2, _, code := runArgs(t, "slopearea", filepath.Join(dir, "reach-brindle.csv"), "--format", "json", "--draws", "0")
+	out2, _, code := saRun(t, "slopearea", filepath.Join(dir, "reach-brindle.csv"), "--format", "json", "--draws", "0")
 	var doc struct{ Discharge float64 }
 	if code != 0 || json.Unmarshal([]byte(out2), &doc) != nil || !(doc.Discharge > 0) {
 		t.Errorf("demo reach does not read back: %d %q", code, out2)
