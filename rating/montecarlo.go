@@ -15,10 +15,10 @@ import (
 // Defaults of the slope-area uncertainty analysis. They are stated
 // assumptions of this project, to be reviewed for each site.
 const (
-	// DefaultDraws is the number of Monte Carlo draws.
-	DefaultDraws = 5000
-	// MaxDraws bounds the number of draws (each keeps one discharge).
-	MaxDraws = 10_000_000
+	// DefaultReachDraws is the number of Monte Carlo draws.
+	DefaultReachDraws = 5000
+	// MaxReachDraws bounds the number of draws (each keeps one discharge).
+	MaxReachDraws = 10_000_000
 	// DefaultNCV is the coefficient of variation of each subsection's
 	// Manning's n: 0.15 (project default; an assumption about how well n
 	// is judged in the field, to be reviewed).
@@ -33,10 +33,10 @@ const (
 	// c of a run with seed s draws from rand.NewPCG(s, c), so the draws do
 	// not depend on how many goroutines share the work.
 	ChunkDraws = 500
-	// NStep and HStep are the central-difference steps of the sensitivities:
+	// SensitivityNStep and SensitivityHStep are the central-difference steps of the sensitivities:
 	// 0.001 in n, and 0.001 length unit in a water surface.
-	NStep = 0.001
-	HStep = 0.001
+	SensitivityNStep = 0.001
+	SensitivityHStep = 0.001
 )
 
 // markQualityFeet are the elevation bands of high-water-mark quality
@@ -64,10 +64,10 @@ func QualitySD(quality string, u Units) (sd float64, ok bool) {
 	return ft / FeetPerMetre, true
 }
 
-// MonteCarloOptions configure the uncertainty analysis. The zero value is
+// ReachMonteCarloOptions configure the uncertainty analysis. The zero value is
 // the default of every field.
-type MonteCarloOptions struct {
-	// Draws is the number of draws (default DefaultDraws).
+type ReachMonteCarloOptions struct {
+	// Draws is the number of draws (default DefaultReachDraws).
 	Draws int
 	// Seed seeds the random sources; equal seeds give equal results.
 	Seed uint64
@@ -85,9 +85,9 @@ type MonteCarloOptions struct {
 	Workers int
 }
 
-// Uncertainty is the spread of a slope-area discharge under uncertain n
+// ReachUncertainty is the spread of a slope-area discharge under uncertain n
 // and water surfaces, and its sensitivities.
-type Uncertainty struct {
+type ReachUncertainty struct {
 	// Draws is the number of draws made; Failed those without a solution
 	// (a dry section, no fall, no real discharge), left out of the
 	// percentiles.
@@ -105,10 +105,10 @@ type Uncertainty struct {
 	WaterSurfaceSD []float64
 	// DQDN is dQ/dn: the change in discharge per unit change of every n
 	// together (discharge unit per unit n; multiply by 0.001 for a change
-	// of 0.001 in n), by central differences of NStep.
+	// of 0.001 in n), by central differences of SensitivityNStep.
 	DQDN float64
 	// DQDH is dQ/dh for each section's water surface alone (discharge unit
-	// per length unit), upstream first, by central differences of HStep.
+	// per length unit), upstream first, by central differences of SensitivityHStep.
 	DQDH []float64
 	// Samples holds the discharges of the successful draws, sorted (for a
 	// histogram).
@@ -153,7 +153,7 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 	return saReachQ(m.secs, s.ws, s.sts, m.opt.Units)
 }
 
-// MonteCarlo estimates the uncertainty of the slope-area discharge of a
+// ReachMonteCarlo estimates the uncertainty of the slope-area discharge of a
 // reach: each draw takes every subsection's n from a log-normal
 // distribution with median the surveyed n and coefficient of variation
 // NCV (σ = √ln(1+CV²)), and every section's water surface from a normal
@@ -164,24 +164,24 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 //
 // The reach must solve (SolveSlopeArea returns no error); otherwise that
 // error is returned.
-func MonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc MonteCarloOptions) (Uncertainty, error) {
+func ReachMonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc ReachMonteCarloOptions) (ReachUncertainty, error) {
 	var res SlopeArea
 	if len(secs) < 2 {
-		return Uncertainty{}, ErrTooFewSections
+		return ReachUncertainty{}, ErrTooFewSections
 	}
 	ws, used, sts, err := saPrepare(secs, opt, &res)
 	if err != nil {
-		return Uncertainty{}, err
+		return ReachUncertainty{}, err
 	}
 	if _, err := saReachQ(secs, ws, sts, opt.Units); err != nil {
-		return Uncertainty{}, err
+		return ReachUncertainty{}, err
 	}
-	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
+	u := ReachUncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
 	if u.Draws <= 0 {
-		u.Draws = DefaultDraws
+		u.Draws = DefaultReachDraws
 	}
-	if u.Draws > MaxDraws {
-		return Uncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxDraws)
+	if u.Draws > MaxReachDraws {
+		return ReachUncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxReachDraws)
 	}
 	switch {
 	case u.NCV == 0:
@@ -289,26 +289,26 @@ func (m *saModel) sensitivities(base []saSectionState) (dqdn float64, dqdh []flo
 			}
 		}
 	}
-	setN(NStep)
+	setN(SensitivityNStep)
 	hi := qAt()
-	setN(-NStep)
+	setN(-SensitivityNStep)
 	lo := qAt()
-	dqdn = (hi - lo) / (2 * NStep)
+	dqdn = (hi - lo) / (2 * SensitivityNStep)
 	setN(0)
 	dqdh = make([]float64, len(m.secs))
 	for i := range m.secs {
-		s.ws[i] = m.ws[i] + HStep
+		s.ws[i] = m.ws[i] + SensitivityHStep
 		hi := qAt()
-		s.ws[i] = m.ws[i] - HStep
+		s.ws[i] = m.ws[i] - SensitivityHStep
 		lo := qAt()
 		s.ws[i] = m.ws[i]
-		dqdh[i] = (hi - lo) / (2 * HStep)
+		dqdh[i] = (hi - lo) / (2 * SensitivityHStep)
 	}
 	return dqdn, dqdh
 }
 
 // String summarises the band, e.g. "p05 410, p50 452, p95 497 (5000 draws)".
-func (u Uncertainty) String() string {
+func (u ReachUncertainty) String() string {
 	return fmt.Sprintf("p05 %s, p50 %s, p95 %s (%d draws, %d failed)",
 		saSig(u.P05), saSig(u.P50), saSig(u.P95), u.Draws, u.Failed)
 }

@@ -52,18 +52,18 @@ func saThreeSections(t testing.TB) []ReachSection {
 
 func TestMonteCarloReproducible(t *testing.T) {
 	secs := saThreeSections(t)
-	a, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
+	a, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 7, Workers: 3})
+	b, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 3})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !slices.Equal(a.Samples, b.Samples) || a.P50 != b.P50 {
 		t.Error("same seed, different worker counts: different draws")
 	}
-	c, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 8, Workers: 1})
+	c, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 8, Workers: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,7 +82,7 @@ func TestMonteCarloZeroSpread(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 300, Seed: 1, NCV: -1, MarkSD: -1})
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 300, Seed: 1, NCV: -1, MarkSD: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +109,7 @@ func TestMonteCarloMedian(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1})
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -123,7 +123,7 @@ func TestMonteCarloMedian(t *testing.T) {
 		t.Errorf("%d of %d draws failed", u.Failed, u.Draws)
 	}
 	// A larger n spread widens the band.
-	w, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1, NCV: 0.3})
+	w, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, NCV: 0.3})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -146,7 +146,7 @@ func TestMonteCarloSensitivities(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 10})
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -177,7 +177,7 @@ func TestQualitySD(t *testing.T) {
 func BenchmarkMonteCarlo5000(b *testing.B) {
 	secs := saThreeSections(b)
 	for b.Loop() {
-		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
+		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -188,7 +188,7 @@ func BenchmarkMonteCarlo5000(b *testing.B) {
 // variance of their mean.
 func TestMonteCarloMarkSD(t *testing.T) {
 	secs := saThreeSections(t)
-	base, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	base, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -197,7 +197,7 @@ func TestMonteCarloMarkSD(t *testing.T) {
 	}
 	poor, _ := QualitySD("poor", SI)
 	secs[0].MarkSD = poor
-	wide, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	wide, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -210,7 +210,7 @@ func TestMonteCarloMarkSD(t *testing.T) {
 func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
 	secs := saThreeSections(b)
 	for b.Loop() {
-		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
+		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
 			b.Fatal(err)
 		}
 	}

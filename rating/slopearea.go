@@ -98,7 +98,7 @@ type ReachSection struct {
 	// (length unit); NaN where there is no mark.
 	Left, Right float64
 	// MarkSD is the standard deviation of one mark's elevation (length
-	// unit) used by MonteCarlo; zero means MonteCarloOptions.MarkSD.
+	// unit) used by ReachMonteCarlo; zero means ReachMonteCarloOptions.MarkSD.
 	MarkSD float64
 }
 
@@ -162,7 +162,7 @@ type SlopeArea struct {
 	// Fall is zero and Slope is the slope given.
 	Fall, Length, Slope float64
 	// Sections holds each section's hydraulics at Discharge, upstream first.
-	Sections []SectionResult
+	Sections []ReachSectionResult
 	// Subreaches holds each pair of adjacent sections, upstream first.
 	Subreaches []Subreach
 	// SubreachMin and SubreachMax are the least and greatest subreach
@@ -172,13 +172,13 @@ type SlopeArea struct {
 	// MarkSpread and MinFall are the tolerances the checks used.
 	MarkSpread, MinFall float64
 	// Checks are the quality checks, in report order.
-	Checks []Check
+	Checks []ReachCheck
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 }
 
-// SectionResult is one section's hydraulics at the reach discharge.
-type SectionResult struct {
+// ReachSectionResult is one section's hydraulics at the reach discharge.
+type ReachSectionResult struct {
 	ID string
 	// Distance is the position along the channel.
 	Distance float64
@@ -227,8 +227,8 @@ type Subreach struct {
 	ConveyanceRatio float64
 }
 
-// Check is one quality check of a slope-area reach.
-type Check struct {
+// ReachCheck is one quality check of a slope-area reach.
+type ReachCheck struct {
 	// Name says what is checked and where, e.g. "froude XS-2".
 	Name string
 	// Value is the measured quantity; Limit the criterion; Relation how
@@ -242,7 +242,7 @@ type Check struct {
 }
 
 // Status returns "pass" or "warn".
-func (c Check) Status() string {
+func (c ReachCheck) Status() string {
 	if c.Pass {
 		return "pass"
 	}
@@ -251,16 +251,16 @@ func (c Check) Status() string {
 
 // Errors of the slope-area computation, for errors.Is.
 var (
-	ErrTooFewSections = errors.New("a slope-area reach needs two or more sections (with one, give a slope for the weaker slope-conveyance estimate)")
-	ErrDistances      = errors.New("distances must increase downstream")
-	ErrNoMark         = errors.New("no high-water mark: give ws_left or ws_right")
-	ErrFall           = errors.New("the water surface must fall from the first section to the last")
-	ErrDrySection     = errors.New("the ground is entirely above the water surface")
-	ErrNoSolution     = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
+	ErrTooFewSections  = errors.New("a slope-area reach needs two or more sections (with one, give a slope for the weaker slope-conveyance estimate)")
+	ErrDistances       = errors.New("distances must increase downstream")
+	ErrNoMark          = errors.New("no high-water mark: give ws_left or ws_right")
+	ErrFall            = errors.New("the water surface must fall from the first section to the last")
+	ErrDrySection      = errors.New("the ground is entirely above the water surface")
+	ErrNoReachSolution = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
 )
 
-// SectionError reports a problem with one section of a reach.
-type SectionError struct {
+// ReachSectionError reports a problem with one section of a reach.
+type ReachSectionError struct {
 	// Index is the 0-based index of the section; ID its name.
 	Index int
 	ID    string
@@ -270,11 +270,11 @@ type SectionError struct {
 	Err   error
 }
 
-func (e *SectionError) Error() string {
+func (e *ReachSectionError) Error() string {
 	return fmt.Sprintf("section %s: %v", e.ID, e.Err)
 }
 
-func (e *SectionError) Unwrap() error { return e.Err }
+func (e *ReachSectionError) Unwrap() error { return e.Err }
 
 // saWaterSurface returns a section's water surface from its marks, the
 // number of marks used, and a warning when the chosen side was missing.
@@ -374,7 +374,7 @@ func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) 
 		return math.NaN(), ErrFall
 	}
 	if !(den > 0) {
-		return math.NaN(), ErrNoSolution
+		return math.NaN(), ErrNoReachSolution
 	}
 	return math.Sqrt(fall / den), nil
 }
@@ -419,9 +419,9 @@ func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) 
 //	Water-Resources Investigations, book 3, chapter A2.
 //	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
 //
-// Errors are *SectionError for a section at fault (distance not
+// Errors are *ReachSectionError for a section at fault (distance not
 // increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
-// ErrNoSolution.
+// ErrNoReachSolution.
 func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error) {
 	u := opt.Units
 	res := SlopeArea{Method: MethodSlopeArea, Units: u, Side: opt.Side,
@@ -501,18 +501,18 @@ func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []
 	sts = make([]saSectionState, len(secs))
 	for i, s := range secs {
 		if s.Geometry == nil {
-			return nil, nil, nil, &SectionError{i, s.ID, "geometry", errors.New("no geometry")}
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "geometry", errors.New("no geometry")}
 		}
 		if math.IsNaN(s.Distance) || math.IsInf(s.Distance, 0) {
-			return nil, nil, nil, &SectionError{i, s.ID, "distance", errors.New("distance is not a finite number")}
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance", errors.New("distance is not a finite number")}
 		}
 		if i > 0 && !(s.Distance > secs[i-1].Distance) {
-			return nil, nil, nil, &SectionError{i, s.ID, "distance",
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance",
 				fmt.Errorf("%w: %g after %g", ErrDistances, s.Distance, secs[i-1].Distance)}
 		}
 		h, n, warn := saWaterSurface(s, opt.Side)
 		if n == 0 {
-			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", ErrNoMark}
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", ErrNoMark}
 		}
 		if warn != "" {
 			res.Warnings = append(res.Warnings, warn)
@@ -523,7 +523,7 @@ func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []
 				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
 					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
 			}
-			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", err}
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", err}
 		}
 		for _, w := range ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
 			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
@@ -539,11 +539,11 @@ func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []
 // saFillSections sets each section's hydraulics at discharge q.
 func saFillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int, sts []saSectionState, q float64) {
 	u := res.Units
-	res.Sections = make([]SectionResult, len(secs))
+	res.Sections = make([]ReachSectionResult, len(secs))
 	for i, s := range secs {
 		st := &sts[i]
 		w := st.w
-		r := SectionResult{ID: s.ID, Distance: s.Distance, Left: s.Left, Right: s.Right,
+		r := ReachSectionResult{ID: s.ID, Distance: s.Distance, Left: s.Left, Right: s.Right,
 			WaterSurface: ws[i], MarksUsed: used[i], Bottom: s.Geometry.Bottom(),
 			Area: w.Area, WettedPerimeter: w.WettedPerimeter, TopWidth: w.TopWidth,
 			HydraulicDepth: w.HydraulicDepth, Conveyance: st.k, Alpha: st.alpha,
@@ -579,7 +579,7 @@ const (
 
 // saChecks evaluates the quality criteria of a solved reach and adds a
 // warning for each that fails.
-func saChecks(res *SlopeArea) []Check {
+func saChecks(res *SlopeArea) []ReachCheck {
 	cs := saCheckList(res)
 	for _, c := range cs {
 		if !c.Pass {
@@ -590,8 +590,8 @@ func saChecks(res *SlopeArea) []Check {
 	return cs
 }
 
-func saCheckList(res *SlopeArea) []Check {
-	var cs []Check
+func saCheckList(res *SlopeArea) []ReachCheck {
+	var cs []ReachCheck
 	maxHV, meanD := 0.0, 0.0
 	for _, s := range res.Sections {
 		maxHV = math.Max(maxHV, s.VelocityHead)
@@ -600,27 +600,27 @@ func saCheckList(res *SlopeArea) []Check {
 	meanD /= float64(len(res.Sections))
 	if res.Method == MethodSlopeArea {
 		cs = append(cs,
-			Check{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
+			ReachCheck{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
 				Pass: res.Fall >= maxHV, Source: srcFallHV},
-			Check{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
+			ReachCheck{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
 				Pass: res.Fall >= res.MinFall, Source: srcMinFall},
-			Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
+			ReachCheck{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
 				Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
 				ratio = 1 / ratio
 			}
-			cs = append(cs, Check{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
+			cs = append(cs, ReachCheck{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
-			cs = append(cs, Check{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+			cs = append(cs, ReachCheck{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}
 	for _, s := range res.Sections {
-		cs = append(cs, Check{Name: "froude " + s.ID, Value: s.Froude, Limit: MaxFroude, Relation: "<",
+		cs = append(cs, ReachCheck{Name: "froude " + s.ID, Value: s.Froude, Limit: MaxFroude, Relation: "<",
 			Pass: s.Froude < MaxFroude, Source: srcFroude})
 	}
 	for _, s := range res.Sections {
@@ -628,7 +628,7 @@ func saCheckList(res *SlopeArea) []Check {
 			continue
 		}
 		d := math.Abs(s.Left - s.Right)
-		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
+		cs = append(cs, ReachCheck{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
 	}
 	return cs

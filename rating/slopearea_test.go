@@ -283,7 +283,7 @@ func TestSlopeAreaChecks(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := map[string]Check{}
+	got := map[string]ReachCheck{}
 	for _, c := range res.Checks {
 		got[c.Name] = c
 		if c.Source == "" || c.Relation == "" {
@@ -348,12 +348,12 @@ func TestSlopeAreaErrors(t *testing.T) {
 			if !errors.Is(err, tc.want) {
 				t.Fatalf("err = %v, want %v", err, tc.want)
 			}
-			var se *SectionError
+			var se *ReachSectionError
 			if tc.field != "" && (!errors.As(err, &se) || se.Field != tc.field) {
-				t.Errorf("err = %#v, want a SectionError on %s", err, tc.field)
+				t.Errorf("err = %#v, want a ReachSectionError on %s", err, tc.field)
 			}
-			if _, err := MonteCarlo(tc.secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 10}); !errors.Is(err, tc.want) {
-				t.Errorf("MonteCarlo err = %v, want %v", err, tc.want)
+			if _, err := ReachMonteCarlo(tc.secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10}); !errors.Is(err, tc.want) {
+				t.Errorf("ReachMonteCarlo err = %v, want %v", err, tc.want)
 			}
 		})
 	}
@@ -415,7 +415,7 @@ func TestSlopeAreaUSUnits(t *testing.T) {
 			t.Error("0.6 ft mark spread passes a 0.5 ft tolerance")
 		}
 	}
-	u, err := MonteCarlo(secs, SlopeAreaOptions{Units: US}, MonteCarloOptions{Draws: 10})
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{Units: US}, ReachMonteCarloOptions{Draws: 10})
 	if err != nil || u.MarkSD != DefaultMarkSDUS {
 		t.Errorf("US mark SD %g, %v", u.MarkSD, err)
 	}

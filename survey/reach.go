@@ -19,28 +19,28 @@ import (
 // survey, distance, ws_left and ws_right are required; quality and note
 // are optional.
 const (
-	ColSection  = "section"
-	ColSurvey   = "survey"
-	ColDistance = "distance"
-	ColWSLeft   = "ws_left"
-	ColWSRight  = "ws_right"
-	ColQuality  = "quality"
+	ReachColSection  = "section"
+	ReachColSurvey   = "survey"
+	ReachColDistance = "distance"
+	ReachColWSLeft   = "ws_left"
+	ReachColWSRight  = "ws_right"
+	ReachColQuality  = "quality"
 )
 
 // ReachColumns lists the columns of a reach table in their usual order.
-var ReachColumns = []string{ColSection, ColSurvey, ColDistance, ColWSLeft, ColWSRight, ColQuality, ColNote}
+var ReachColumns = []string{ReachColSection, ReachColSurvey, ReachColDistance, ReachColWSLeft, ReachColWSRight, ReachColQuality, ColNote}
 
 // Causes of reach-table errors, for errors.Is.
 var (
-	ErrNoID          = errors.New("the section needs an id")
-	ErrDuplicateID   = errors.New("section id used twice")
-	ErrNoSurvey      = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
-	ErrSurveyAbsent  = errors.New("no such survey file or sheet")
-	ErrDistanceBlank = errors.New("distance is blank")
-	ErrNotIncreasing = errors.New("distances must increase downstream, row by row")
-	ErrNoMarks       = errors.New("give a high-water mark in ws_left or ws_right")
-	ErrQuality       = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.MarkQualities, ", "))
-	ErrNoNColumn     = errors.New("the survey has no n column: every section of a reach needs Manning's n")
+	ErrSectionID        = errors.New("the section needs an id")
+	ErrDuplicateSection = errors.New("section id used twice")
+	ErrNoSurvey         = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
+	ErrSurveyAbsent     = errors.New("no such survey file or sheet")
+	ErrDistanceBlank    = errors.New("distance is blank")
+	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
+	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
+	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.MarkQualities, ", "))
+	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 )
 
 // ReachRow is one section of a reach table.
@@ -113,7 +113,7 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 		}
 		if row.Sheet == "" {
 			if st, err := os.Stat(row.Path); err != nil || st.IsDir() {
-				errs = append(errs, r.At(i, ColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path)))
+				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path)))
 				continue
 			}
 		}
@@ -147,7 +147,7 @@ func ReachFromTable(t *Table) (*Reach, error) {
 		}
 		r.cols[name] = c
 	}
-	r.cols[ColQuality] = t.Column(ColQuality)
+	r.cols[ReachColQuality] = t.Column(ReachColQuality)
 	r.cols[ColNote] = t.Column(ColNote)
 	for i, h := range t.Header {
 		if h != "" && !slices.ContainsFunc(ReachColumns, func(c string) bool { return t.Column(c) == i }) {
@@ -162,27 +162,27 @@ func ReachFromTable(t *Table) (*Reach, error) {
 	lastDist := math.Inf(-1)
 	for _, rec := range t.Records {
 		row := ReachRow{Row: rec.Row, WSLeft: math.NaN(), WSRight: math.NaN(),
-			ID:     t.Cell(rec, r.cols[ColSection]),
-			Survey: t.Cell(rec, r.cols[ColSurvey]),
+			ID:     t.Cell(rec, r.cols[ReachColSection]),
+			Survey: t.Cell(rec, r.cols[ReachColSurvey]),
 			Note:   t.Cell(rec, r.cols[ColNote])}
 		switch {
 		case row.ID == "":
-			add(rec, ColSection, ErrNoID)
+			add(rec, ReachColSection, ErrSectionID)
 		case ids[row.ID]:
-			add(rec, ColSection, ErrDuplicateID)
+			add(rec, ReachColSection, ErrDuplicateSection)
 		}
 		ids[row.ID] = true
 		if row.Survey == "" {
-			add(rec, ColSurvey, ErrNoSurvey)
+			add(rec, ReachColSurvey, ErrNoSurvey)
 		}
-		d, ok, err := t.Float(rec, r.cols[ColDistance])
+		d, ok, err := t.Float(rec, r.cols[ReachColDistance])
 		switch {
 		case err != nil:
 			errs = append(errs, err.(*ParseError))
 		case !ok:
-			add(rec, ColDistance, ErrDistanceBlank)
+			add(rec, ReachColDistance, ErrDistanceBlank)
 		case !(d > lastDist):
-			add(rec, ColDistance, fmt.Errorf("%w (%g after %g)", ErrNotIncreasing, d, lastDist))
+			add(rec, ReachColDistance, fmt.Errorf("%w (%g after %g)", ErrDistanceOrder, d, lastDist))
 		}
 		if ok {
 			row.Distance = d
@@ -192,7 +192,7 @@ func ReachFromTable(t *Table) (*Reach, error) {
 		for _, c := range []struct {
 			name string
 			v    *float64
-		}{{ColWSLeft, &row.WSLeft}, {ColWSRight, &row.WSRight}} {
+		}{{ReachColWSLeft, &row.WSLeft}, {ReachColWSRight, &row.WSRight}} {
 			v, ok, err := t.Float(rec, r.cols[c.name])
 			switch {
 			case err != nil:
@@ -204,11 +204,11 @@ func ReachFromTable(t *Table) (*Reach, error) {
 			}
 		}
 		if marks == 0 {
-			add(rec, ColWSLeft, ErrNoMarks)
+			add(rec, ReachColWSLeft, ErrNoHighWaterMark)
 		}
-		if q := strings.ToLower(t.Cell(rec, r.cols[ColQuality])); q != "" {
+		if q := strings.ToLower(t.Cell(rec, r.cols[ReachColQuality])); q != "" {
 			if _, ok := rating.QualitySD(q, rating.SI); !ok {
-				add(rec, ColQuality, ErrQuality)
+				add(rec, ReachColQuality, ErrMarkQuality)
 			}
 			row.Quality = q
 		}
@@ -276,18 +276,18 @@ func (r *Reach) ReachSections(u rating.Units) ([]rating.ReachSection, error) {
 	return out, nil
 }
 
-// SectionError positions an error of the slope-area computation on the
-// reach table when it concerns one section (a rating.SectionError), and
+// PlaceError positions an error of the slope-area computation on the
+// reach table when it concerns one section (a rating.ReachSectionError), and
 // returns other errors prefixed with the reach file.
-func (r *Reach) SectionError(err error) error {
-	var se *rating.SectionError
+func (r *Reach) PlaceError(err error) error {
+	var se *rating.ReachSectionError
 	if errors.As(err, &se) && se.Index >= 0 && se.Index < len(r.Rows) {
-		col := ColDistance
+		col := ReachColDistance
 		switch se.Field {
 		case "water_surface":
-			col = ColWSLeft
+			col = ReachColWSLeft
 		case "geometry":
-			col = ColSurvey
+			col = ReachColSurvey
 		}
 		return r.At(se.Index, col, se.Err)
 	}

@@ -144,16 +144,16 @@ func TestReachErrors(t *testing.T) {
 	}{
 		{"missing column", "section,survey,distance,ws_left\nA,a.csv,0,10\n", ErrMissingColumn, "reach.csv:1"},
 		{"no rows", head, ErrEmpty, "reach.csv:1"},
-		{"blank id", head + ",a.csv,0,10,,\n", ErrNoID, "reach.csv:2:1"},
-		{"duplicate id", head + "A,a.csv,0,10,,\nA,a.csv,5,9,,\n", ErrDuplicateID, "reach.csv:3:1"},
+		{"blank id", head + ",a.csv,0,10,,\n", ErrSectionID, "reach.csv:2:1"},
+		{"duplicate id", head + "A,a.csv,0,10,,\nA,a.csv,5,9,,\n", ErrDuplicateSection, "reach.csv:3:1"},
 		{"blank survey", head + "A,,0,10,,\n", ErrNoSurvey, "reach.csv:2:2"},
 		{"bad distance", head + "A,a.csv,zero,10,,\n", ErrNotNumber, "reach.csv:2:3"},
 		{"blank distance", head + "A,a.csv,,10,,\n", ErrDistanceBlank, "reach.csv:2:3"},
-		{"distance not increasing", head + "A,a.csv,100,10,,\nB,a.csv,100,9,,\n", ErrNotIncreasing, "reach.csv:3:3"},
-		{"distance decreasing", head + "A,a.csv,100,10,,\nB,a.csv,50,9,,\n", ErrNotIncreasing, "reach.csv:3:3"},
-		{"no marks", head + "A,a.csv,0,,,\n", ErrNoMarks, "reach.csv:2:4"},
+		{"distance not increasing", head + "A,a.csv,100,10,,\nB,a.csv,100,9,,\n", ErrDistanceOrder, "reach.csv:3:3"},
+		{"distance decreasing", head + "A,a.csv,100,10,,\nB,a.csv,50,9,,\n", ErrDistanceOrder, "reach.csv:3:3"},
+		{"no marks", head + "A,a.csv,0,,,\n", ErrNoHighWaterMark, "reach.csv:2:4"},
 		{"decimal comma", head + "A,a.csv,0,\"10,5\",,\n", ErrDecimalComma, "reach.csv:2:4"},
-		{"bad quality", head + "A,a.csv,0,10,,splendid\n", ErrQuality, "reach.csv:2:6"},
+		{"bad quality", head + "A,a.csv,0,10,,splendid\n", ErrMarkQuality, "reach.csv:2:6"},
 		{"unknown survey file", head + "A,nothere.csv,0,10,,\n", ErrSurveyAbsent, "reach.csv:2:2"},
 		{"bad survey", head + "A,bad.csv,0,10,,\n", ErrNotNumber, "bad.csv:2:2"},
 	} {
@@ -200,7 +200,7 @@ func TestReachSectionErrorPosition(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, err = rating.SolveSlopeArea(secs, rating.SlopeAreaOptions{})
-	err = r.SectionError(err)
+	err = r.PlaceError(err)
 	if !errors.Is(err, rating.ErrDrySection) || !strings.Contains(err.Error(), "reach.csv:3:4") {
 		t.Errorf("err = %v", err)
 	}

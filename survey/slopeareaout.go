@@ -21,7 +21,7 @@ type SlopeAreaReport struct {
 	// Result is the slope-area (or slope-conveyance) computation.
 	Result rating.SlopeArea
 	// Uncertainty is the Monte Carlo analysis; nil when none was run.
-	Uncertainty *rating.Uncertainty
+	Uncertainty *rating.ReachUncertainty
 	// Warnings gathers the reach's, the result's and the analysis's.
 	Warnings []string
 	// Version is the program version stated in the report.

@@ -34,7 +34,7 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
-	fs.IntVar(&f.draws, "draws", rating.DefaultDraws, "Monte Carlo draws for the uncertainty band (0: none)")
+	fs.IntVar(&f.draws, "draws", rating.DefaultReachDraws, "Monte Carlo draws for the uncertainty band (0: none)")
 	fs.Uint64Var(&f.seed, "seed", 1, "random seed of the Monte Carlo draws")
 	fs.Float64Var(&f.nCV, "n-cv", rating.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none)")
 	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides; 0: none)")
@@ -59,8 +59,8 @@ func (f *slopeAreaFlags) check() (rating.Units, rating.Side, error) {
 		return u, side, usageError{err}
 	}
 	switch {
-	case f.draws < 0 || f.draws > rating.MaxDraws:
-		return u, side, usagef("--draws %d: want 0 to %d", f.draws, rating.MaxDraws)
+	case f.draws < 0 || f.draws > rating.MaxReachDraws:
+		return u, side, usagef("--draws %d: want 0 to %d", f.draws, rating.MaxReachDraws)
 	case !(f.nCV >= 0) || math.IsInf(f.nCV, 0):
 		return u, side, usagef("--n-cv %v: want 0 or more", f.nCV)
 	case f.markSD < 0 || math.IsInf(f.markSD, 0):
@@ -144,11 +144,11 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 	rep.Warnings = append(rep.Warnings, reach.Warnings...)
 	if len(secs) == 1 {
 		if f.slope == 0 {
-			return rep, nil, reach.SectionError(rating.ErrTooFewSections)
+			return rep, nil, reach.PlaceError(rating.ErrTooFewSections)
 		}
 		res, err := rating.SlopeConveyance(secs[0], f.slope, opt)
 		if err != nil {
-			return rep, nil, reach.SectionError(err)
+			return rep, nil, reach.PlaceError(err)
 		}
 		rep.Result = res
 		rep.Warnings = append(rep.Warnings, res.Warnings...)
@@ -159,12 +159,12 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 	}
 	res, err := rating.SolveSlopeArea(secs, opt)
 	if err != nil {
-		return rep, nil, reach.SectionError(err)
+		return rep, nil, reach.PlaceError(err)
 	}
 	rep.Result = res
 	rep.Warnings = append(rep.Warnings, res.Warnings...)
 	if f.draws > 0 {
-		mc := rating.MonteCarloOptions{Draws: f.draws, Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
+		mc := rating.ReachMonteCarloOptions{Draws: f.draws, Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
 		if mc.NCV == 0 {
 			mc.NCV = -1 // none
 		}
@@ -174,9 +174,9 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 		case f.markSD == 0:
 			mc.MarkSD = -1 // none
 		}
-		un, err := rating.MonteCarlo(secs, opt, mc)
+		un, err := rating.ReachMonteCarlo(secs, opt, mc)
 		if err != nil {
-			return rep, nil, reach.SectionError(err)
+			return rep, nil, reach.PlaceError(err)
 		}
 		rep.Uncertainty = &un
 		if un.Failed > un.Draws/100 {

@@ -230,5 +230,5 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 	if code != 0 || json.Unmarshal([]byte(out2), &doc) != nil || !(doc.Discharge > 0) {
 		t.Errorf("demo reach does not read back: %d %q", code, out2)
 	}
-	_ = rating.DefaultDraws
+	_ = rating.DefaultReachDraws
 }
