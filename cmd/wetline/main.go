@@ -33,11 +33,12 @@ type env struct {
 
 // commands lists the subcommands by name.
 var commands = map[string]command{
-	"rate":  {"compute a stage–discharge table from a surveyed section", runRate},
-	"demo":  {"write an invented demo site, its rating and reports to a folder", runDemo},
-	"solve": {"normal and critical stage for a discharge, or the stage holding a flow area", runSolve},
-	"cowan": {"Manning's n from a description of the reach by Cowan's method", runCowan},
-	"shape": {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
+	"rate":      {"compute a stage–discharge table from a surveyed section", runRate},
+	"demo":      {"write an invented demo site, its rating and reports to a folder", runDemo},
+	"solve":     {"normal and critical stage for a discharge, or the stage holding a flow area", runSolve},
+	"cowan":     {"Manning's n from a description of the reach by Cowan's method", runCowan},
+	"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
+	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
 }
 
 // usageError marks an error in the command line (exit status 2).

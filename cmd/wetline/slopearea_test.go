@@ -1,0 +1,234 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"flag"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"wetline/rating"
+	"wetline/survey"
+)
+
+func init() {
+	// Golden files are rewritten with go test -update; the flag may be
+	// defined by another test file of this package already.
+	if flag.Lookup("update") == nil {
+		flag.Bool("update", false, "rewrite golden files")
+	}
+}
+
+func saUpdating() bool {
+	f := flag.Lookup("update")
+	return f != nil && f.Value.String() == "true"
+}
+
+// saRun runs the program with buffers and returns stdout, stderr and
+// the exit status.
+func saRun(t *testing.T, args ...string) (string, string, int) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
+	code := exitStatus(err, &errb)
+	return out.String(), errb.String(), code
+}
+
+func saGolden(t *testing.T, name, got string) {
+	t.Helper()
+	path := filepath.Join("testdata", name)
+	if saUpdating() {
+		if err := os.MkdirAll("testdata", 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	want, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatalf("%v (run go test -update to create it)", err)
+	}
+	if got != string(want) {
+		t.Errorf("output differs from %s (go test -update rewrites it):\n%s", path, got)
+	}
+}
+
+func TestSlopeAreaTextGolden(t *testing.T) {
+	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"Peak discharge", "Quality checks", "Uncertainty", "dQ/dn", "Caution: " + survey.Caution} {
+		if !strings.Contains(out, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	saGolden(t, "slopearea-brindle.golden", out)
+}
+
+// The JSON form holds at least the fields of the published contract.
+func TestSlopeAreaJSONContract(t *testing.T) {
+	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	need := func(obj any, where string, keys ...string) {
+		m, ok := obj.(map[string]any)
+		if !ok {
+			t.Fatalf("%s is not an object: %v", where, obj)
+		}
+		for _, k := range keys {
+			if _, ok := m[k]; !ok {
+				t.Errorf("%s lacks %q", where, k)
+			}
+		}
+	}
+	need(doc, "report", "discharge", "units", "sections", "subreaches", "checks", "uncertainty", "warnings", "caution")
+	first := func(key string) any {
+		a, ok := doc[key].([]any)
+		if !ok || len(a) == 0 {
+			t.Fatalf("%s is not a non-empty array", key)
+		}
+		return a[0]
+	}
+	need(first("sections"), "section", "id", "water_surface", "area", "conveyance", "alpha", "velocity_head", "froude")
+	need(first("subreaches"), "subreach", "from", "to", "length", "fall", "discharge", "expanding")
+	need(first("checks"), "check", "name", "value", "limit", "pass")
+	need(doc["uncertainty"], "uncertainty", "p05", "p50", "p95")
+	if q, _ := doc["discharge"].(float64); !(q > 0) {
+		t.Errorf("discharge %v", doc["discharge"])
+	}
+	if len(doc["sections"].([]any)) != 3 || len(doc["subreaches"].([]any)) != 2 {
+		t.Error("want 3 sections and 2 subreaches")
+	}
+}
+
+// Bad reach data ends with one clear error, exit status 1 (2 for flags),
+// and writes nothing.
+func TestSlopeAreaBadReach(t *testing.T) {
+	survey := "station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"
+	high := "station,elevation,n\n0,15,0.04\n10,13,0.04\n20,15,\n"
+	const head = "section,survey,distance,ws_left,ws_right\n"
+	for _, tc := range []struct {
+		name, reach string
+		flags       []string
+		code        int
+		want        string
+	}{
+		{"one section", head + "A,a.csv,0,11,\n", nil, 1, "two or more sections"},
+		{"zero fall", head + "A,a.csv,0,11,\nB,a.csv,100,11,\n", nil, 1, "must fall"},
+		{"negative fall", head + "A,a.csv,0,11,\nB,a.csv,100,11.2,\n", nil, 1, "must fall"},
+		{"distances not increasing", head + "A,a.csv,100,11,\nB,a.csv,100,10.9,\n", nil, 1, "reach.csv:3:3: distance \"100\""},
+		{"section above the water", head + "A,a.csv,0,11,\nB,high.csv,100,10.9,\n", nil, 1, "reach.csv:3:4"},
+		{"unknown survey file", head + "A,a.csv,0,11,\nB,gone.csv,100,10.9,\n", nil, 1, "reach.csv:3:2: survey \"gone.csv\""},
+		{"bad side", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--side", "middle"}, 2, "side"},
+		{"slope with a reach", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--slope", "0.001"}, 2, "--slope"},
+		{"negative draws", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "-1"}, 2, "--draws"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			for name, text := range map[string]string{"reach.csv": tc.reach, "a.csv": survey, "high.csv": high} {
+				if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			out := filepath.Join(dir, "out.json")
+			args := append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "-o", out}, tc.flags...)
+			stdout, stderr, code := saRun(t, args...)
+			if code != tc.code {
+				t.Fatalf("exit %d, want %d: %s", code, tc.code, stderr)
+			}
+			if !strings.Contains(stderr, tc.want) {
+				t.Errorf("stderr %q lacks %q", stderr, tc.want)
+			}
+			if stdout != "" {
+				t.Errorf("stdout %q", stdout)
+			}
+			if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+				t.Errorf("output written: %v", err)
+			}
+			if n := strings.Count(strings.TrimSpace(stderr), "\n"); tc.code == 1 && n > 0 {
+				t.Errorf("want one line, got:\n%s", stderr)
+			}
+		})
+	}
+}
+
+// One section with a slope gives the slope-conveyance estimate Q = K·√S,
+// labelled as weaker.
+func TestSlopeAreaOneSectionSlope(t *testing.T) {
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	out, errs, code := saRun(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "weaker method") || !strings.Contains(out, "slope-conveyance") {
+		t.Errorf("report does not label the weaker method:\n%s", out)
+	}
+	// Triangle of depth 1 m and side slopes 5:1: A = 5 m², P = 2√26 m,
+	// Q = A·R^(2/3)·√S/n (Chow 1959, eq. 6-9) = 2.458 m³/s (by hand).
+	if !strings.Contains(out, "Peak discharge  2.458 m3/s") {
+		t.Errorf("want Q = 2.458 m3/s:\n%s", out)
+	}
+}
+
+func TestSlopeAreaOutputFile(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "report.json")
+	_, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	data, err := os.ReadFile(out)
+	if err != nil || !bytes.HasPrefix(data, []byte("{")) {
+		t.Fatalf("json by extension: %v %q", err, data[:min(len(data), 20)])
+	}
+	if !strings.Contains(errs, "wrote "+out) || !strings.Contains(errs, "caution: ") {
+		t.Errorf("summary %q", errs)
+	}
+	// Never over an input.
+	before, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
+	_, errs, code = saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
+	after, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
+	if code != 1 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
+		t.Errorf("overwrite of an input: exit %d %s", code, errs)
+	}
+}
+
+func TestDemoWritesSlopeArea(t *testing.T) {
+	dir := t.TempDir()
+	out, errs, code := saRun(t, "demo", "-o", dir)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "reach-brindle-slopearea.txt") {
+		t.Errorf("demo output lacks the report:\n%s", out)
+	}
+	report, err := os.ReadFile(filepath.Join(dir, "reach-brindle-slopearea.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"Quality checks", "90 % band", survey.Caution} {
+		if !strings.Contains(string(report), want) {
+			t.Errorf("demo report lacks %q", want)
+		}
+	}
+	// The written reach reads back to the same discharge.
+	out2, _, code := saRun(t, "slopearea", filepath.Join(dir, "reach-brindle.csv"), "--format", "json", "--draws", "0")
+	var doc struct{ Discharge float64 }
+	if code != 0 || json.Unmarshal([]byte(out2), &doc) != nil || !(doc.Discharge > 0) {
+		t.Errorf("demo reach does not read back: %d %q", code, out2)
+	}
+	_ = rating.DefaultReachDraws
+}

@@ -1,0 +1,314 @@
+package rating
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"runtime"
+	"sort"
+	"strings"
+	"sync"
+
+	"gonum.org/v1/gonum/stat"
+)
+
+// Defaults of the slope-area uncertainty analysis. They are stated
+// assumptions of this project, to be reviewed for each site.
+const (
+	// DefaultReachDraws is the number of Monte Carlo draws.
+	DefaultReachDraws = 5000
+	// MaxReachDraws bounds the number of draws (each keeps one discharge).
+	MaxReachDraws = 10_000_000
+	// DefaultNCV is the coefficient of variation of each subsection's
+	// Manning's n: 0.15 (project default; an assumption about how well n
+	// is judged in the field, to be reviewed).
+	DefaultNCV = 0.15
+	// DefaultMarkSDSI and DefaultMarkSDUS are the standard deviation of one
+	// high-water mark's elevation: 0.03 m or 0.10 ft, the band of a "good"
+	// mark taken as one standard deviation (bands from Koenig and others,
+	// 2016, USGS Techniques and Methods 3-A24; from memory).
+	DefaultMarkSDSI = 0.03
+	DefaultMarkSDUS = 0.10
+	// ChunkDraws is the number of draws made from one random source. Chunk
+	// c of a run with seed s draws from rand.NewPCG(s, c), so the draws do
+	// not depend on how many goroutines share the work.
+	ChunkDraws = 500
+	// SensitivityNStep and SensitivityHStep are the central-difference steps of the sensitivities:
+	// 0.001 in n, and 0.001 length unit in a water surface.
+	SensitivityNStep = 0.001
+	SensitivityHStep = 0.001
+)
+
+// markQualityFeet are the elevation bands of high-water-mark quality
+// ratings in feet (Koenig and others, 2016, USGS Techniques and Methods
+// 3-A24: excellent ±0.05 ft, good ±0.10, fair ±0.20, poor ±0.40; from memory).
+var markQualityFeet = map[string]float64{
+	"excellent": 0.05, "good": 0.10, "fair": 0.20, "poor": 0.40,
+}
+
+// MarkQualities lists the quality words a reach table may give a mark.
+var MarkQualities = []string{"excellent", "good", "fair", "poor"}
+
+// QualitySD returns the standard deviation of one mark of the given quality
+// rating (excellent, good, fair, poor; any case), taking the rating's
+// elevation band as one standard deviation, in the length unit of u. ok is
+// false for an unknown word.
+func QualitySD(quality string, u Units) (sd float64, ok bool) {
+	ft, ok := markQualityFeet[strings.ToLower(strings.TrimSpace(quality))]
+	if !ok {
+		return 0, false
+	}
+	if u == US {
+		return ft, true
+	}
+	return ft / FeetPerMetre, true
+}
+
+// ReachMonteCarloOptions configure the uncertainty analysis. The zero value is
+// the default of every field.
+type ReachMonteCarloOptions struct {
+	// Draws is the number of draws (default DefaultReachDraws).
+	Draws int
+	// Seed seeds the random sources; equal seeds give equal results.
+	Seed uint64
+	// NCV is the coefficient of variation of every subsection's n, drawn
+	// log-normal with its median at the surveyed n; zero means DefaultNCV,
+	// a negative value means no spread.
+	NCV float64
+	// MarkSD is the standard deviation of one mark's elevation (length
+	// unit), drawn normal about the mark; zero means DefaultMarkSDSI or
+	// DefaultMarkSDUS, a negative value no spread. A section's own
+	// ReachSection.MarkSD replaces it for that section's marks.
+	MarkSD float64
+	// Workers is the number of goroutines (default GOMAXPROCS). Results do
+	// not depend on it.
+	Workers int
+}
+
+// ReachUncertainty is the spread of a slope-area discharge under uncertain n
+// and water surfaces, and its sensitivities.
+type ReachUncertainty struct {
+	// Draws is the number of draws made; Failed those without a solution
+	// (a dry section, no fall, no real discharge), left out of the
+	// percentiles.
+	Draws, Failed int
+	// Seed, NCV and MarkSD are the settings used (MarkSD in length units).
+	Seed        uint64
+	NCV, MarkSD float64
+	// P05, P50 and P95 are the 5th, 50th and 95th percentiles of the
+	// discharge (linear interpolation between order statistics); Mean and
+	// SD its mean and standard deviation.
+	P05, P50, P95, Mean, SD float64
+	// WaterSurfaceSD is the standard deviation of each section's water
+	// surface as drawn (length unit), upstream first: the mark standard
+	// deviation over √(marks used).
+	WaterSurfaceSD []float64
+	// DQDN is dQ/dn: the change in discharge per unit change of every n
+	// together (discharge unit per unit n; multiply by 0.001 for a change
+	// of 0.001 in n), by central differences of SensitivityNStep.
+	DQDN float64
+	// DQDH is dQ/dh for each section's water surface alone (discharge unit
+	// per length unit), upstream first, by central differences of SensitivityHStep.
+	DQDH []float64
+	// Samples holds the discharges of the successful draws, sorted (for a
+	// histogram).
+	Samples []float64
+}
+
+// saModel is a reach prepared for repeated evaluation.
+type saModel struct {
+	secs  []ReachSection
+	ws    []float64 // water surfaces from the marks
+	wsSD  []float64 // standard deviation of each water surface
+	nsubs []int     // subsections of each section
+	opt   SlopeAreaOptions
+}
+
+// saScratch is one goroutine's working space.
+type saScratch struct {
+	ws   []float64
+	nmul [][]float64
+	sts  []saSectionState
+}
+
+func (m *saModel) newSAScratch() *saScratch {
+	s := &saScratch{ws: make([]float64, len(m.secs)), nmul: make([][]float64, len(m.secs)),
+		sts: make([]saSectionState, len(m.secs))}
+	for i, n := range m.nsubs {
+		s.nmul[i] = make([]float64, n)
+		for j := range s.nmul[i] {
+			s.nmul[i][j] = 1
+		}
+	}
+	return s
+}
+
+// eval solves the reach with the scratch space's water surfaces and n factors.
+func (m *saModel) eval(s *saScratch) (float64, error) {
+	for i, sec := range m.secs {
+		if err := saState(sec.Geometry, s.ws[i], s.nmul[i], m.opt.Geometry, m.opt.Units, &s.sts[i]); err != nil {
+			return math.NaN(), err
+		}
+	}
+	return saReachQ(m.secs, s.ws, s.sts, m.opt.Units)
+}
+
+// ReachMonteCarlo estimates the uncertainty of the slope-area discharge of a
+// reach: each draw takes every subsection's n from a log-normal
+// distribution with median the surveyed n and coefficient of variation
+// NCV (σ = √ln(1+CV²)), and every section's water surface from a normal
+// distribution about the value from its marks with standard deviation
+// MarkSD/√m for the mean of m marks (marks independent), then solves the
+// whole reach. Draws are independent between sections and subsections.
+// It also returns the sensitivities dQ/dn and dQ/dh.
+//
+// The reach must solve (SolveSlopeArea returns no error); otherwise that
+// error is returned.
+func ReachMonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc ReachMonteCarloOptions) (ReachUncertainty, error) {
+	var res SlopeArea
+	if len(secs) < 2 {
+		return ReachUncertainty{}, ErrTooFewSections
+	}
+	ws, used, sts, err := saPrepare(secs, opt, &res)
+	if err != nil {
+		return ReachUncertainty{}, err
+	}
+	if _, err := saReachQ(secs, ws, sts, opt.Units); err != nil {
+		return ReachUncertainty{}, err
+	}
+	u := ReachUncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
+	if u.Draws <= 0 {
+		u.Draws = DefaultReachDraws
+	}
+	if u.Draws > MaxReachDraws {
+		return ReachUncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxReachDraws)
+	}
+	switch {
+	case u.NCV == 0:
+		u.NCV = DefaultNCV
+	case u.NCV < 0:
+		u.NCV = 0
+	}
+	switch {
+	case u.MarkSD == 0 && opt.Units == US:
+		u.MarkSD = DefaultMarkSDUS
+	case u.MarkSD == 0:
+		u.MarkSD = DefaultMarkSDSI
+	case u.MarkSD < 0:
+		u.MarkSD = 0
+	}
+	m := &saModel{secs: secs, ws: ws, wsSD: make([]float64, len(secs)), nsubs: make([]int, len(secs)), opt: opt}
+	for i, s := range secs {
+		sd := u.MarkSD
+		if s.MarkSD > 0 && mc.MarkSD >= 0 {
+			sd = s.MarkSD
+		}
+		m.wsSD[i] = sd / math.Sqrt(float64(used[i]))
+		m.nsubs[i] = len(sts[i].w.Subs)
+	}
+	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
+	u.DQDN, u.DQDH = m.sensitivities(sts)
+
+	sigma := math.Sqrt(math.Log1p(u.NCV * u.NCV))
+	q := make([]float64, u.Draws)
+	chunks := (u.Draws + ChunkDraws - 1) / ChunkDraws
+	workers := mc.Workers
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	workers = min(workers, chunks)
+	next := make(chan int, chunks)
+	for c := range chunks {
+		next <- c
+	}
+	close(next)
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			s := m.newSAScratch()
+			for c := range next {
+				rng := rand.New(rand.NewPCG(mc.Seed, uint64(c)))
+				for d := c * ChunkDraws; d < min((c+1)*ChunkDraws, u.Draws); d++ {
+					for i := range m.secs {
+						s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
+						for j := range s.nmul[i] {
+							s.nmul[i][j] = math.Exp(sigma * rng.NormFloat64())
+						}
+					}
+					v, err := m.eval(s)
+					if err != nil {
+						v = math.NaN()
+					}
+					q[d] = v
+				}
+			}
+		}()
+	}
+	wg.Wait()
+	ok := q[:0]
+	for _, v := range q {
+		if math.IsNaN(v) {
+			u.Failed++
+			continue
+		}
+		ok = append(ok, v)
+	}
+	sort.Float64s(ok)
+	u.Samples = ok
+	u.P05, u.P50, u.P95, u.Mean, u.SD = math.NaN(), math.NaN(), math.NaN(), math.NaN(), math.NaN()
+	if len(ok) > 0 {
+		u.P05 = stat.Quantile(0.05, stat.LinInterp, ok, nil)
+		u.P50 = stat.Quantile(0.50, stat.LinInterp, ok, nil)
+		u.P95 = stat.Quantile(0.95, stat.LinInterp, ok, nil)
+		u.Mean, u.SD = stat.MeanStdDev(ok, nil)
+	}
+	return u, nil
+}
+
+// sensitivities returns dQ/dn (every n changed by the same amount) and
+// dQ/dh for each water surface, by central differences.
+func (m *saModel) sensitivities(base []saSectionState) (dqdn float64, dqdh []float64) {
+	s := m.newSAScratch()
+	copy(s.ws, m.ws)
+	qAt := func() float64 {
+		v, err := m.eval(s)
+		if err != nil {
+			return math.NaN()
+		}
+		return v
+	}
+	setN := func(dn float64) {
+		for i := range m.secs {
+			for j, sw := range base[i].w.Subs {
+				s.nmul[i][j] = 1
+				if sw.N > 0 {
+					s.nmul[i][j] = (sw.N + dn) / sw.N
+				}
+			}
+		}
+	}
+	setN(SensitivityNStep)
+	hi := qAt()
+	setN(-SensitivityNStep)
+	lo := qAt()
+	dqdn = (hi - lo) / (2 * SensitivityNStep)
+	setN(0)
+	dqdh = make([]float64, len(m.secs))
+	for i := range m.secs {
+		s.ws[i] = m.ws[i] + SensitivityHStep
+		hi := qAt()
+		s.ws[i] = m.ws[i] - SensitivityHStep
+		lo := qAt()
+		s.ws[i] = m.ws[i]
+		dqdh[i] = (hi - lo) / (2 * SensitivityHStep)
+	}
+	return dqdn, dqdh
+}
+
+// String summarises the band, e.g. "p05 410, p50 452, p95 497 (5000 draws)".
+func (u ReachUncertainty) String() string {
+	return fmt.Sprintf("p05 %s, p50 %s, p95 %s (%d draws, %d failed)",
+		saSig(u.P05), saSig(u.P50), saSig(u.P95), u.Draws, u.Failed)
+}

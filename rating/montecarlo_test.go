@@ -1,0 +1,217 @@
+package rating
+
+import (
+	"math"
+	"slices"
+	"testing"
+
+	"wetline/subdivide"
+)
+
+// saCompound returns an irregular compound section of 25 points with
+// overbanks, bank stations and three n values; bed is its lowest elevation
+// and widen stretches it sideways.
+func saCompound(t testing.TB, bed, widen float64) subdivide.Geometry {
+	t.Helper()
+	shape := [][2]float64{
+		{0, 4.8}, {8, 3.9}, {18, 3.2}, {30, 2.9}, {40, 2.7}, {46, 2.5}, {48, 1.6}, {50, 0.9}, {53, 0.4},
+		{56, 0.3}, {57, 0}, {59, 0.5}, {62, 1.1}, {64, 2.0}, {65.5, 2.6}, {72, 2.8}, {78, 3.2}, {82, 2.9},
+		{90, 2.7}, {98, 2.8}, {104, 3.3}, {108, 3.6}, {112, 4.0}, {116, 4.4}, {120, 4.9},
+	}
+	var s subdivide.Section
+	for i, p := range shape {
+		s.Points = append(s.Points, subdivide.Point{Station: p[0] * widen, Elevation: bed + p[1]})
+		if i > 0 {
+			n := 0.035
+			switch {
+			case p[0] <= 46:
+				n = 0.05
+			case p[0] > 65.5:
+				n = 0.07
+			}
+			s.N = append(s.N, n)
+		}
+	}
+	s.HasBanks, s.LeftBank, s.RightBank = true, 46*widen, 65.5*widen
+	g, err := subdivide.Compile(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return g
+}
+
+// saThreeSections is a three-section compound reach, contracting then
+// expanding, with both marks at every section.
+func saThreeSections(t testing.TB) []ReachSection {
+	return []ReachSection{
+		{ID: "XS1", Geometry: saCompound(t, 100.0, 1.1), Distance: 0, Left: 103.42, Right: 103.36},
+		{ID: "XS2", Geometry: saCompound(t, 99.85, 0.9), Distance: 160, Left: 103.22, Right: 103.18},
+		{ID: "XS3", Geometry: saCompound(t, 99.7, 1.0), Distance: 330, Left: 102.95, Right: 102.99},
+	}
+}
+
+func TestMonteCarloReproducible(t *testing.T) {
+	secs := saThreeSections(t)
+	a, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(a.Samples, b.Samples) || a.P50 != b.P50 {
+		t.Error("same seed, different worker counts: different draws")
+	}
+	c, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 8, Workers: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.P50 == a.P50 {
+		t.Error("different seeds gave the same median")
+	}
+	if a.Draws != 1200 || a.NCV != DefaultNCV || a.MarkSD != DefaultMarkSDSI {
+		t.Errorf("settings %d %g %g", a.Draws, a.NCV, a.MarkSD)
+	}
+}
+
+// With no spread every draw is the deterministic discharge.
+func TestMonteCarloZeroSpread(t *testing.T) {
+	secs := saThreeSections(t)
+	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 300, Seed: 1, NCV: -1, MarkSD: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if u.Failed != 0 || len(u.Samples) != 300 {
+		t.Fatalf("%d failed, %d samples", u.Failed, len(u.Samples))
+	}
+	for _, q := range []float64{u.Samples[0], u.Samples[299], u.P05, u.P50, u.P95} {
+		if saRelErr(q, det.Discharge) > saClosedFormTol {
+			t.Fatalf("zero-spread draw %.12g, deterministic %.12g", q, det.Discharge)
+		}
+	}
+}
+
+// saMedianTol is the relative distance allowed between the Monte Carlo
+// median and the deterministic discharge. n is drawn with its median at the
+// surveyed value and Q is nearly proportional to 1/n, so the median of Q
+// sits near the deterministic Q; the marks add a small bias through √fall
+// (a statistical property of the method; common practice).
+const saMedianTol = 0.03
+
+func TestMonteCarloMedian(t *testing.T) {
+	secs := saThreeSections(t)
+	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if saRelErr(u.P50, det.Discharge) > saMedianTol {
+		t.Errorf("median %g, deterministic %g", u.P50, det.Discharge)
+	}
+	if !(u.P05 < u.P50 && u.P50 < u.P95) {
+		t.Errorf("percentiles not ordered: %v", u)
+	}
+	if u.Failed > u.Draws/100 {
+		t.Errorf("%d of %d draws failed", u.Failed, u.Draws)
+	}
+	// A larger n spread widens the band.
+	w, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, NCV: 0.3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(w.P95-w.P05 > u.P95-u.P05) {
+		t.Errorf("band with CV 0.3 (%g) not wider than with CV 0.15 (%g)", w.P95-w.P05, u.P95-u.P05)
+	}
+}
+
+// For two equal prismatic sections with one n, Q = K·√(F/L) and K ∝ 1/n,
+// so dQ/dn = −Q/n (differentiating Manning's equation, Chow 1959, eq. 6-9);
+// raising the upstream water surface raises Q and raising the downstream
+// one lowers it.
+func TestMonteCarloSensitivities(t *testing.T) {
+	const n = 0.04
+	secs := []ReachSection{
+		{ID: "A", Geometry: saTrapezoid(t, 10, 2, 100, 5, n), Distance: 0, Left: 102, Right: math.NaN()},
+		{ID: "B", Geometry: saTrapezoid(t, 10, 2, 99.7, 5, n), Distance: 250, Left: 101.7, Right: math.NaN()},
+	}
+	det, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Central differences of step 0.001 about n = 0.04: error O((Δn/n)²) ≈ 1e-3.
+	if want := -det.Discharge / n; saRelErr(u.DQDN, want) > 1e-3 {
+		t.Errorf("dQ/dn = %g, want −Q/n = %g", u.DQDN, want)
+	}
+	if !(u.DQDH[0] > 0 && u.DQDH[1] < 0) {
+		t.Errorf("dQ/dh = %v, want up > 0, down < 0", u.DQDH)
+	}
+}
+
+func TestQualitySD(t *testing.T) {
+	// Koenig and others 2016 (USGS TM 3-A24) bands, from memory: good ±0.10 ft.
+	if sd, ok := QualitySD("Good", US); !ok || sd != 0.10 {
+		t.Errorf("good = %g %v", sd, ok)
+	}
+	if sd, ok := QualitySD("poor", SI); !ok || saRelErr(sd, 0.40*0.3048) > saClosedFormTol {
+		t.Errorf("poor SI = %g %v", sd, ok)
+	}
+	if _, ok := QualitySD("splendid", SI); ok {
+		t.Error("unknown quality accepted")
+	}
+}
+
+// BenchmarkMonteCarlo5000 measures 5 000 draws for a three-section
+// compound reach of 25-point sections on one goroutine.
+func BenchmarkMonteCarlo5000(b *testing.B) {
+	secs := saThreeSections(b)
+	for b.Loop() {
+		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// A section's own mark standard deviation (from a poor quality rating)
+// widens its water surface's spread and the band; two marks halve the
+// variance of their mean.
+func TestMonteCarloMarkSD(t *testing.T) {
+	secs := saThreeSections(t)
+	base, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := DefaultMarkSDSI / math.Sqrt2; saRelErr(base.WaterSurfaceSD[0], want) > saClosedFormTol {
+		t.Errorf("water-surface SD %g, want %g", base.WaterSurfaceSD[0], want)
+	}
+	poor, _ := QualitySD("poor", SI)
+	secs[0].MarkSD = poor
+	wide, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if saRelErr(wide.WaterSurfaceSD[0], poor/math.Sqrt2) > saClosedFormTol || !(wide.P95-wide.P05 > base.P95-base.P05) {
+		t.Errorf("poor marks at XS1: SD %g, band %g vs %g", wide.WaterSurfaceSD[0], wide.P95-wide.P05, base.P95-base.P05)
+	}
+}
+
+// BenchmarkMonteCarlo5000Parallel is the same on GOMAXPROCS goroutines.
+func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
+	secs := saThreeSections(b)
+	for b.Loop() {
+		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

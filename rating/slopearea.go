@@ -1,0 +1,668 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"wetline/subdivide"
+)
+
+// Eddy-loss coefficients of the slope-area method (Dalrymple & Benson,
+// 1967): none where the flow contracts, half the drop in velocity head
+// where it expands.
+const (
+	ContractingEddyK = 0.0
+	ExpandingEddyK   = 0.5
+)
+
+// Quality criteria for a slope-area reach. Each is stated beside the check
+// that uses it; values recalled from the published guidance are marked as
+// such.
+const (
+	// MinReachDepths is the least reach length, in mean depths of flow:
+	// L ≥ 75·d (Dalrymple & Benson, 1967, site selection; from memory).
+	MinReachDepths = 75.0
+	// MinFallSI and MinFallUS are the least total fall, 0.15 m or 0.5 ft
+	// (Dalrymple & Benson, 1967, site selection: 0.5 ft; from memory).
+	MinFallSI = 0.15
+	MinFallUS = 0.5
+	// MaxConveyanceRatio bounds the ratio of the larger to the smaller
+	// conveyance of adjacent sections, 1/0.7 ≈ 1.43 (adjacent sections
+	// within a conveyance ratio of 0.7 to 1.4, common practice for
+	// energy-balance computations; from memory).
+	MaxConveyanceRatio = 1 / 0.7
+	// MaxFroude is the Froude number at or above which a section is
+	// flagged: the energy equation between sections assumes gradually
+	// varied subcritical flow (Chow, 1959, section 10-1), and a high
+	// computed Froude number in a natural channel often means n was
+	// taken too low (Jarrett, 1984, Hydraulics of high-gradient streams,
+	// J. Hydraulic Engineering 110(11); from memory).
+	MaxFroude = 1.0
+	// MarkSpreadSI and MarkSpreadUS are the default tolerance between the
+	// left and right high-water marks of a section, 0.15 m or 0.5 ft
+	// (project default, common practice).
+	MarkSpreadSI = 0.15
+	MarkSpreadUS = 0.5
+	// SubreachSpreadWarn is the relative spread of the subreach
+	// discharges, (max − min)/Q, above which a warning is given
+	// (common practice).
+	SubreachSpreadWarn = 0.20
+)
+
+// Side selects which high-water marks set a section's water surface.
+// The zero value takes the mean of the marks present.
+type Side int
+
+// Sides.
+const (
+	MeanSide  Side = iota // mean of the left and right marks present
+	LeftSide              // the left mark (the right one when the left is missing)
+	RightSide             // the right mark (the left one when the right is missing)
+)
+
+func (s Side) String() string {
+	switch s {
+	case LeftSide:
+		return "left"
+	case RightSide:
+		return "right"
+	}
+	return "mean"
+}
+
+// ParseSide reads "mean", "left" or "right" (any case; "" is mean).
+func ParseSide(s string) (Side, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "", "mean", "both":
+		return MeanSide, nil
+	case "left":
+		return LeftSide, nil
+	case "right":
+		return RightSide, nil
+	}
+	return MeanSide, fmt.Errorf("side %q: want mean, left or right", s)
+}
+
+// ReachSection is one surveyed section of a slope-area reach.
+type ReachSection struct {
+	// ID names the section in reports.
+	ID string
+	// Geometry is the section's ground, n and banks.
+	Geometry subdivide.Geometry
+	// Distance is the position along the channel (length unit), increasing
+	// downstream.
+	Distance float64
+	// Left and Right are the high-water-mark elevations on each bank
+	// (length unit); NaN where there is no mark.
+	Left, Right float64
+	// MarkSD is the standard deviation of one mark's elevation (length
+	// unit) used by ReachMonteCarlo; zero means ReachMonteCarloOptions.MarkSD.
+	MarkSD float64
+}
+
+// SlopeAreaOptions configure a slope-area computation. The zero value is
+// the default of every field.
+type SlopeAreaOptions struct {
+	// Units is the unit system of every input and result (default SI).
+	Units Units
+	// Geometry controls pockets and end extension, as for a rating.
+	Geometry subdivide.Options
+	// Side picks the marks that set each water surface (default the mean).
+	Side Side
+	// MarkSpread is the tolerance between a section's two marks (length
+	// unit); zero means MarkSpreadSI or MarkSpreadUS.
+	MarkSpread float64
+	// MinFall is the least acceptable total fall (length unit); zero means
+	// MinFallSI or MinFallUS.
+	MinFall float64
+}
+
+func (o SlopeAreaOptions) markSpread() float64 {
+	if o.MarkSpread > 0 {
+		return o.MarkSpread
+	}
+	if o.Units == US {
+		return MarkSpreadUS
+	}
+	return MarkSpreadSI
+}
+
+func (o SlopeAreaOptions) minFall() float64 {
+	if o.MinFall > 0 {
+		return o.MinFall
+	}
+	if o.Units == US {
+		return MinFallUS
+	}
+	return MinFallSI
+}
+
+// Methods reported in SlopeArea.Method.
+const (
+	MethodSlopeArea       = "slope-area"
+	MethodSlopeConveyance = "slope-conveyance"
+)
+
+// SlopeArea is the result of a slope-area (or single-section
+// slope-conveyance) computation: everything a report, a workbook or a plot
+// needs. Lengths, areas and discharges are in Units.
+type SlopeArea struct {
+	// Method is MethodSlopeArea or MethodSlopeConveyance.
+	Method string
+	// Units is the unit system of every value.
+	Units Units
+	// Side is how each water surface was taken from its marks.
+	Side Side
+	// Discharge is the peak discharge from the whole reach solved at once.
+	Discharge float64
+	// Fall is the water-surface drop from the first to the last section;
+	// Length the distance between them. For the slope-conveyance method
+	// Fall is zero and Slope is the slope given.
+	Fall, Length, Slope float64
+	// Sections holds each section's hydraulics at Discharge, upstream first.
+	Sections []ReachSectionResult
+	// Subreaches holds each pair of adjacent sections, upstream first.
+	Subreaches []Subreach
+	// SubreachMin and SubreachMax are the least and greatest subreach
+	// discharges; SubreachSpread is (max − min)/Discharge (NaN when a
+	// subreach has no solution).
+	SubreachMin, SubreachMax, SubreachSpread float64
+	// MarkSpread and MinFall are the tolerances the checks used.
+	MarkSpread, MinFall float64
+	// Checks are the quality checks, in report order.
+	Checks []ReachCheck
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+}
+
+// ReachSectionResult is one section's hydraulics at the reach discharge.
+type ReachSectionResult struct {
+	ID string
+	// Distance is the position along the channel.
+	Distance float64
+	// Left and Right are the marks (NaN where missing); WaterSurface is the
+	// elevation used; MarksUsed how many marks it rests on (1 or 2).
+	Left, Right, WaterSurface float64
+	MarksUsed                 int
+	// Bottom is the lowest ground elevation (the thalweg).
+	Bottom float64
+	// Area, WettedPerimeter, TopWidth and HydraulicDepth (A/T) describe
+	// the wetted section.
+	Area, WettedPerimeter, TopWidth, HydraulicDepth float64
+	// Conveyance is ΣKi over subsections; Alpha the energy coefficient
+	// Σ(Ki³/Ai²)/(K³/A²).
+	Conveyance, Alpha float64
+	// Velocity is Q/A; VelocityHead α·V²/(2g); EnergyGrade WaterSurface +
+	// VelocityHead; Froude √(α·Q²·T/(g·A³)).
+	Velocity, VelocityHead, EnergyGrade, Froude float64
+	// Subs is each subsection's share; Discharge is Q·Ki/K.
+	Subs []SubRow
+	// Ground is the section's ground line with bank points inserted (nil
+	// when the geometry is not a surveyed *subdivide.Profile).
+	Ground []subdivide.Point
+}
+
+// Subreach is the energy balance between two adjacent sections.
+type Subreach struct {
+	// From and To are the section IDs, upstream first; FromIndex and
+	// ToIndex their indices in SlopeArea.Sections.
+	From, To           string
+	FromIndex, ToIndex int
+	// Length is the distance between the sections; Fall the drop in water
+	// surface from upstream to downstream.
+	Length, Fall float64
+	// Discharge is this subreach solved alone (NaN when it has no real
+	// solution).
+	Discharge float64
+	// Expanding reports a velocity head falling downstream; EddyK is the
+	// eddy-loss coefficient applied (ExpandingEddyK or ContractingEddyK).
+	Expanding bool
+	EddyK     float64
+	// At the reach discharge: FrictionLoss Q²L/(KuKd), VelocityHeadChange
+	// hvu − hvd, and EddyLoss k·(hvu − hvd).
+	FrictionLoss, VelocityHeadChange, EddyLoss float64
+	// ConveyanceRatio is Kd/Ku.
+	ConveyanceRatio float64
+}
+
+// ReachCheck is one quality check of a slope-area reach.
+type ReachCheck struct {
+	// Name says what is checked and where, e.g. "froude XS-2".
+	Name string
+	// Value is the measured quantity; Limit the criterion; Relation how
+	// they compare for a pass ("≥" or "≤" or "<").
+	Value, Limit float64
+	Relation     string
+	// Pass is true when the criterion holds; otherwise it is a warning.
+	Pass bool
+	// Source cites the criterion.
+	Source string
+}
+
+// Status returns "pass" or "warn".
+func (c ReachCheck) Status() string {
+	if c.Pass {
+		return "pass"
+	}
+	return "warn"
+}
+
+// Errors of the slope-area computation, for errors.Is.
+var (
+	ErrTooFewSections  = errors.New("a slope-area reach needs two or more sections (with one, give a slope for the weaker slope-conveyance estimate)")
+	ErrDistances       = errors.New("distances must increase downstream")
+	ErrNoMark          = errors.New("no high-water mark: give ws_left or ws_right")
+	ErrFall            = errors.New("the water surface must fall from the first section to the last")
+	ErrDrySection      = errors.New("the ground is entirely above the water surface")
+	ErrNoReachSolution = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
+)
+
+// ReachSectionError reports a problem with one section of a reach.
+type ReachSectionError struct {
+	// Index is the 0-based index of the section; ID its name.
+	Index int
+	ID    string
+	// Field names the input at fault: "distance", "water_surface" or
+	// "geometry".
+	Field string
+	Err   error
+}
+
+func (e *ReachSectionError) Error() string {
+	return fmt.Sprintf("section %s: %v", e.ID, e.Err)
+}
+
+func (e *ReachSectionError) Unwrap() error { return e.Err }
+
+// saWaterSurface returns a section's water surface from its marks, the
+// number of marks used, and a warning when the chosen side was missing.
+func saWaterSurface(s ReachSection, side Side) (ws float64, used int, warn string) {
+	l, r := s.Left, s.Right
+	hasL, hasR := finiteAll(l), finiteAll(r)
+	switch {
+	case hasL && hasR:
+		switch side {
+		case LeftSide:
+			return l, 1, ""
+		case RightSide:
+			return r, 1, ""
+		}
+		return (l + r) / 2, 2, ""
+	case hasL:
+		if side == RightSide {
+			warn = fmt.Sprintf("section %s has no right mark: the left mark is used", s.ID)
+		}
+		return l, 1, warn
+	case hasR:
+		if side == LeftSide {
+			warn = fmt.Sprintf("section %s has no left mark: the right mark is used", s.ID)
+		}
+		return r, 1, warn
+	}
+	return math.NaN(), 0, ""
+}
+
+// saSectionState is the hydraulic state of a section at a water surface.
+type saSectionState struct {
+	w        subdivide.Wetted
+	k, alpha float64
+	c        float64 // α/A², so that hv = c·Q²/(2g)
+	subK     []float64
+}
+
+// saState wets a section at ws, with each subsection's n multiplied by
+// nmul[i] (nil for none).
+func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Options, u Units, st *saSectionState) error {
+	w, err := g.At(ws, gopt)
+	if err != nil {
+		return err
+	}
+	st.w = w
+	if cap(st.subK) < len(w.Subs) {
+		st.subK = make([]float64, len(w.Subs))
+	}
+	st.subK = st.subK[:len(w.Subs)]
+	var kt, k3a2 float64
+	for i, sw := range w.Subs {
+		st.subK[i] = 0
+		if sw.Area <= 0 {
+			continue
+		}
+		n := sw.N
+		if nmul != nil {
+			n *= nmul[i]
+		}
+		if !(n > 0) {
+			return fmt.Errorf("stations %g to %g: %w", sw.From, sw.To, ErrNoN)
+		}
+		k := Conveyance(sw.Area, sw.WettedPerimeter, n, u)
+		st.subK[i] = k
+		kt += k
+		k3a2 += k * k * k / (sw.Area * sw.Area)
+	}
+	st.k = kt
+	if !(w.Area > 0) || !(kt > 0) {
+		return ErrDrySection
+	}
+	st.alpha = k3a2 / (kt * kt * kt / (w.Area * w.Area))
+	st.c = st.alpha / (w.Area * w.Area)
+	return nil
+}
+
+// saSubreachTerm returns the denominator term of one subreach,
+// L/(Ku·Kd) − (1−k)·(cu − cd)/(2g), and whether it expands.
+func saSubreachTerm(l float64, up, dn *saSectionState, u Units) (term float64, expanding bool) {
+	expanding = up.c > dn.c
+	k := ContractingEddyK
+	if expanding {
+		k = ExpandingEddyK
+	}
+	return l/(up.k*dn.k) - (1-k)*(up.c-dn.c)/(2*u.Gravity()), expanding
+}
+
+// saReachQ solves the whole reach for the water surfaces ws and states sts.
+func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) (float64, error) {
+	var den float64
+	for j := 0; j+1 < len(secs); j++ {
+		t, _ := saSubreachTerm(secs[j+1].Distance-secs[j].Distance, &sts[j], &sts[j+1], u)
+		den += t
+	}
+	fall := ws[0] - ws[len(ws)-1]
+	if !(fall > 0) {
+		return math.NaN(), ErrFall
+	}
+	if !(den > 0) {
+		return math.NaN(), ErrNoReachSolution
+	}
+	return math.Sqrt(fall / den), nil
+}
+
+// SolveSlopeArea computes the peak discharge of a reach of two or more
+// sections by the slope-area method, the hydraulics of each section and
+// subreach at that discharge, and the quality checks. Sections are given
+// upstream first; each water surface comes from the section's marks
+// (SlopeAreaOptions.Side).
+//
+// The slope-area method estimates a flood peak from the high-water marks
+// and surveyed cross-sections of a reach of two or more sections
+// (Dalrymple & Benson, 1967). Between an upstream section u and the next
+// section d downstream, the energy equation is
+//
+//	hu + hvu = hd + hvd + hf + k·(hvu − hvd)
+//
+// with h the water-surface elevation, hv = α·Q²/(2g·A²) the velocity head,
+// hf = Q²·L/(Ku·Kd) the friction loss over the subreach length L from the
+// geometric mean of the two conveyances, and k the eddy-loss coefficient:
+// k = 0 where the velocity head rises downstream (a contracting subreach)
+// and k = 0.5 where it falls (an expanding subreach). Since hv ∝ Q² and
+// α, A and K depend on the water surface only, each subreach solves in
+// closed form:
+//
+//	Q² = F / ( L/(Ku·Kd) − (1−k)·(αu/Au² − αd/Ad²)/(2g) )
+//
+// where F = hu − hd is the fall. The whole reach of sections 1…M is solved
+// with all subreaches together by adding the M−1 energy equations: the
+// intermediate water surfaces cancel and
+//
+//	Q² = (h1 − hM) / Σj ( Lj/(Kj·Kj+1) − (1−kj)·(αj/Aj² − αj+1/Aj+1²)/(2g) )
+//
+// the multi-section form of Dalrymple & Benson (1967; from memory). The
+// choice of k in each subreach depends only on the geometry (αu/Au² against
+// αd/Ad²), so no iteration is needed.
+//
+// References:
+//
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
+//	the slope-area method: U.S. Geological Survey Techniques of
+//	Water-Resources Investigations, book 3, chapter A2.
+//	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
+//
+// Errors are *ReachSectionError for a section at fault (distance not
+// increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
+// ErrNoReachSolution.
+func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error) {
+	u := opt.Units
+	res := SlopeArea{Method: MethodSlopeArea, Units: u, Side: opt.Side,
+		MarkSpread: opt.markSpread(), MinFall: opt.minFall()}
+	if len(secs) < 2 {
+		return res, ErrTooFewSections
+	}
+	ws, used, sts, err := saPrepare(secs, opt, &res)
+	if err != nil {
+		return res, err
+	}
+	res.Fall = ws[0] - ws[len(ws)-1]
+	res.Length = secs[len(secs)-1].Distance - secs[0].Distance
+	if !(res.Fall > 0) {
+		return res, fmt.Errorf("%w: %s at %.3f %s, %s at %.3f %s", ErrFall,
+			secs[0].ID, ws[0], u.Length(), secs[len(secs)-1].ID, ws[len(ws)-1], u.Length())
+	}
+	q, err := saReachQ(secs, ws, sts, u)
+	if err != nil {
+		return res, err
+	}
+	res.Discharge = q
+	saFillSections(&res, secs, ws, used, sts, q)
+	res.SubreachMin, res.SubreachMax = math.Inf(1), math.Inf(-1)
+	for j := 0; j+1 < len(secs); j++ {
+		up, dn := &res.Sections[j], &res.Sections[j+1]
+		l := secs[j+1].Distance - secs[j].Distance
+		term, expanding := saSubreachTerm(l, &sts[j], &sts[j+1], u)
+		sr := Subreach{From: secs[j].ID, To: secs[j+1].ID, FromIndex: j, ToIndex: j + 1,
+			Length: l, Fall: ws[j] - ws[j+1], Expanding: expanding, Discharge: math.NaN(),
+			ConveyanceRatio: sts[j+1].k / sts[j].k}
+		if x := sr.Fall / term; x > 0 && !math.IsInf(x, 0) {
+			sr.Discharge = math.Sqrt(x)
+		}
+		if expanding {
+			sr.EddyK = ExpandingEddyK
+		}
+		sr.FrictionLoss = q * q * l / (sts[j].k * sts[j+1].k)
+		sr.VelocityHeadChange = up.VelocityHead - dn.VelocityHead
+		if expanding {
+			sr.EddyLoss = sr.EddyK * sr.VelocityHeadChange
+		}
+		res.Subreaches = append(res.Subreaches, sr)
+		if math.IsNaN(sr.Discharge) {
+			res.SubreachMin, res.SubreachMax = math.NaN(), math.NaN()
+			res.Warnings = append(res.Warnings, fmt.Sprintf(
+				"subreach %s to %s alone has no real discharge (fall %.3f %s): only the whole reach gives one",
+				sr.From, sr.To, sr.Fall, u.Length()))
+		} else {
+			res.SubreachMin = math.Min(res.SubreachMin, sr.Discharge)
+			res.SubreachMax = math.Max(res.SubreachMax, sr.Discharge)
+		}
+	}
+	res.SubreachSpread = (res.SubreachMax - res.SubreachMin) / q
+	if res.SubreachSpread > SubreachSpreadWarn {
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"the subreach discharges spread by %.0f %% of the reach discharge (%s to %s %s): review the marks and n values",
+			100*res.SubreachSpread, saSig(res.SubreachMin), saSig(res.SubreachMax), u.Discharge()))
+	}
+	res.Checks = saChecks(&res)
+	return res, nil
+}
+
+func saSig(v float64) string {
+	if math.IsNaN(v) {
+		return "-"
+	}
+	return fmt.Sprintf("%.4g", v)
+}
+
+// saPrepare validates the sections, takes their water surfaces and wets
+// them. Warnings about marks and end extension go on res.
+func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []float64, used []int, sts []saSectionState, err error) {
+	u := opt.Units
+	ws = make([]float64, len(secs))
+	used = make([]int, len(secs))
+	sts = make([]saSectionState, len(secs))
+	for i, s := range secs {
+		if s.Geometry == nil {
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "geometry", errors.New("no geometry")}
+		}
+		if math.IsNaN(s.Distance) || math.IsInf(s.Distance, 0) {
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance", errors.New("distance is not a finite number")}
+		}
+		if i > 0 && !(s.Distance > secs[i-1].Distance) {
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance",
+				fmt.Errorf("%w: %g after %g", ErrDistances, s.Distance, secs[i-1].Distance)}
+		}
+		h, n, warn := saWaterSurface(s, opt.Side)
+		if n == 0 {
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", ErrNoMark}
+		}
+		if warn != "" {
+			res.Warnings = append(res.Warnings, warn)
+		}
+		ws[i], used[i] = h, n
+		if err := saState(s.Geometry, h, nil, opt.Geometry, u, &sts[i]); err != nil {
+			if errors.Is(err, ErrDrySection) {
+				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
+					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
+			}
+			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", err}
+		}
+		for _, w := range ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
+			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
+		}
+		if sts[i].w.Pools > 1 && !opt.Geometry.Connected {
+			res.Warnings = append(res.Warnings, fmt.Sprintf(
+				"section %s: the water stands in %d separate pools; all are counted", s.ID, sts[i].w.Pools))
+		}
+	}
+	return ws, used, sts, nil
+}
+
+// saFillSections sets each section's hydraulics at discharge q.
+func saFillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int, sts []saSectionState, q float64) {
+	u := res.Units
+	res.Sections = make([]ReachSectionResult, len(secs))
+	for i, s := range secs {
+		st := &sts[i]
+		w := st.w
+		r := ReachSectionResult{ID: s.ID, Distance: s.Distance, Left: s.Left, Right: s.Right,
+			WaterSurface: ws[i], MarksUsed: used[i], Bottom: s.Geometry.Bottom(),
+			Area: w.Area, WettedPerimeter: w.WettedPerimeter, TopWidth: w.TopWidth,
+			HydraulicDepth: w.HydraulicDepth, Conveyance: st.k, Alpha: st.alpha,
+			Velocity: q / w.Area, Subs: make([]SubRow, len(w.Subs))}
+		r.VelocityHead = st.c * q * q / (2 * u.Gravity())
+		r.EnergyGrade = r.WaterSurface + r.VelocityHead
+		r.Froude = FroudeNumber(q, w.Area, w.TopWidth, st.alpha, u)
+		if p, ok := s.Geometry.(*subdivide.Profile); ok {
+			r.Ground = p.Points()
+		}
+		for j, sw := range w.Subs {
+			sr := SubRow{SubWetted: sw, Conveyance: st.subK[j], Velocity: math.NaN()}
+			sr.Discharge = q * st.subK[j] / st.k
+			if sw.Area > 0 {
+				sr.Velocity = sr.Discharge / sw.Area
+			}
+			r.Subs[j] = sr
+		}
+		res.Sections[i] = r
+	}
+}
+
+// Sources of the checks, as printed beside them.
+const (
+	srcFallHV    = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: fall at least the velocity head (from memory)"
+	srcMinFall   = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: fall at least 0.5 ft (from memory)"
+	srcLength    = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: length at least 75 mean depths (from memory)"
+	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
+	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
+	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
+	srcMarks     = "left and right marks within the mark-spread tolerance (project default, common practice)"
+)
+
+// saChecks evaluates the quality criteria of a solved reach and adds a
+// warning for each that fails.
+func saChecks(res *SlopeArea) []ReachCheck {
+	cs := saCheckList(res)
+	for _, c := range cs {
+		if !c.Pass {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("check %s: %s %s %s fails (%s)",
+				c.Name, saSig(c.Value), c.Relation, saSig(c.Limit), c.Source))
+		}
+	}
+	return cs
+}
+
+func saCheckList(res *SlopeArea) []ReachCheck {
+	var cs []ReachCheck
+	maxHV, meanD := 0.0, 0.0
+	for _, s := range res.Sections {
+		maxHV = math.Max(maxHV, s.VelocityHead)
+		meanD += s.HydraulicDepth
+	}
+	meanD /= float64(len(res.Sections))
+	if res.Method == MethodSlopeArea {
+		cs = append(cs,
+			ReachCheck{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
+				Pass: res.Fall >= maxHV, Source: srcFallHV},
+			ReachCheck{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
+				Pass: res.Fall >= res.MinFall, Source: srcMinFall},
+			ReachCheck{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
+				Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
+		for _, sr := range res.Subreaches {
+			ratio := sr.ConveyanceRatio
+			if ratio < 1 {
+				ratio = 1 / ratio
+			}
+			cs = append(cs, ReachCheck{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
+				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
+		}
+		for _, sr := range res.Subreaches {
+			cs = append(cs, ReachCheck{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
+		}
+	}
+	for _, s := range res.Sections {
+		cs = append(cs, ReachCheck{Name: "froude " + s.ID, Value: s.Froude, Limit: MaxFroude, Relation: "<",
+			Pass: s.Froude < MaxFroude, Source: srcFroude})
+	}
+	for _, s := range res.Sections {
+		if math.IsNaN(s.Left) || math.IsNaN(s.Right) {
+			continue
+		}
+		d := math.Abs(s.Left - s.Right)
+		cs = append(cs, ReachCheck{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
+			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
+	}
+	return cs
+}
+
+// MarkSpreadEpsilon is the relative slack given to the mark-spread
+// tolerance so that a spread equal to it in the written decimals passes.
+const MarkSpreadEpsilon = 1e-9
+
+// SlopeConveyance is the single-section fallback: Q = K·√S with the given
+// friction slope s (dimensionless) and the section's conveyance at its
+// water surface. It is a weaker method than the slope-area method: the
+// slope is assumed, not measured between sections, and no velocity-head
+// change is accounted for. The result carries the warning saying so.
+//
+// Reference: Chow (1959), Open-Channel Hydraulics, section 6-4 (uniform
+// flow); Dalrymple & Benson (1967) for the slope-area method it replaces.
+func SlopeConveyance(sec ReachSection, s float64, opt SlopeAreaOptions) (SlopeArea, error) {
+	u := opt.Units
+	res := SlopeArea{Method: MethodSlopeConveyance, Units: u, Side: opt.Side, Slope: s,
+		MarkSpread: opt.markSpread(), MinFall: opt.minFall(),
+		SubreachMin: math.NaN(), SubreachMax: math.NaN(), SubreachSpread: math.NaN()}
+	if !(s > 0) || math.IsInf(s, 0) {
+		return res, fmt.Errorf("slope %v: %w", s, ErrSlope)
+	}
+	res.Warnings = append(res.Warnings, "single-section slope-conveyance estimate Q = K·√S with an assumed slope: "+
+		"a weaker method than the slope-area method (no measured fall, no velocity-head change)")
+	ws, used, sts, err := saPrepare([]ReachSection{sec}, opt, &res)
+	if err != nil {
+		return res, err
+	}
+	q := sts[0].k * math.Sqrt(s)
+	res.Discharge = q
+	saFillSections(&res, []ReachSection{sec}, ws, used, sts, q)
+	res.Checks = saChecks(&res)
+	return res, nil
+}

@@ -1,0 +1,422 @@
+package rating
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"wetline/subdivide"
+)
+
+// Tolerances of the slope-area tests.
+const (
+	// saClosedFormTol is the relative tolerance against a closed form: the
+	// engine's geometry is exact, so only round-off differs.
+	saClosedFormTol = 1e-9
+	// saBisectTol is the relative tolerance against a root found by
+	// bisection in the test.
+	saBisectTol = 1e-7
+)
+
+// saTrapezoid returns a prismatic trapezoidal section with bed width b, side
+// slopes z (horizontal per vertical), bed elevation bed, banks high enough
+// for depth top, and one n.
+func saTrapezoid(t testing.TB, b, z, bed, top, n float64) subdivide.Geometry {
+	t.Helper()
+	p, err := subdivide.Compile(subdivide.Section{
+		Points: saPoints(0, bed+top, z*top, bed, z*top+b, bed, 2*z*top+b, bed+top),
+		N:      []float64{n, n, n},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// saPoints builds a ground line from station, elevation pairs.
+func saPoints(v ...float64) []subdivide.Point {
+	out := make([]subdivide.Point, 0, len(v)/2)
+	for i := 0; i+1 < len(v); i += 2 {
+		out = append(out, subdivide.Point{Station: v[i], Elevation: v[i+1]})
+	}
+	return out
+}
+
+// saTrapezoidAKT is the closed-form area, conveyance and top width of a
+// trapezoid at depth y in SI (Chow, 1959, table 2-1; Manning, eq. 6-9).
+func saTrapezoidAKT(b, z, y, n float64) (a, k, top float64) {
+	a = (b + z*y) * y
+	p := b + 2*y*math.Sqrt(1+z*z)
+	return a, a * math.Pow(a/p, 2.0/3.0) / n, b + 2*z*y
+}
+
+func saRelErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
+
+// Two identical prismatic sections with equal depths: no velocity-head
+// change, so the slope-area discharge is uniform flow Q = K·√(F/L)
+// (Manning's equation, Chow 1959, eq. 6-9, with S = F/L).
+func TestSlopeAreaUniformFlow(t *testing.T) {
+	for _, tc := range []struct {
+		name             string
+		b, z, y, n, f, l float64
+	}{
+		{"rectangle", 12, 0, 1.5, 0.035, 0.3, 200},
+		{"trapezoid", 8, 2, 2.2, 0.045, 0.25, 310},
+		{"steep small", 3, 1, 0.6, 0.05, 0.9, 90},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			g1 := saTrapezoid(t, tc.b, tc.z, 100, 5, tc.n)
+			g2 := saTrapezoid(t, tc.b, tc.z, 100-tc.f, 5, tc.n)
+			secs := []ReachSection{
+				{ID: "A", Geometry: g1, Distance: 0, Left: 100 + tc.y, Right: 100 + tc.y},
+				{ID: "B", Geometry: g2, Distance: tc.l, Left: 100 - tc.f + tc.y, Right: math.NaN()},
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			_, k, _ := saTrapezoidAKT(tc.b, tc.z, tc.y, tc.n)
+			want := k * math.Sqrt(tc.f/tc.l) // Chow 1959, eq. 6-9: uniform flow
+			if saRelErr(res.Discharge, want) > saClosedFormTol {
+				t.Errorf("Q = %.9g, uniform flow %.9g", res.Discharge, want)
+			}
+			if saRelErr(res.Subreaches[0].Discharge, want) > saClosedFormTol {
+				t.Errorf("subreach Q = %.9g, uniform flow %.9g", res.Subreaches[0].Discharge, want)
+			}
+			if res.Subreaches[0].Expanding {
+				t.Error("equal sections reported expanding")
+			}
+			if saRelErr(res.Subreaches[0].FrictionLoss, tc.f) > saClosedFormTol {
+				t.Errorf("friction loss %g, want the whole fall %g", res.Subreaches[0].FrictionLoss, tc.f)
+			}
+		})
+	}
+}
+
+// Two rectangular sections of different width. The test solves the energy
+// equation of Dalrymple & Benson (1967, TWRI 3-A2) by hand for rectangles
+// (α = 1, A = b·y, R = b·y/(b+2y)):
+//
+//	h1 + Q²/(2gA1²) = h2 + Q²/(2gA2²) + Q²L/(K1K2) + k·(Q²/(2gA1²) − Q²/(2gA2²))
+//
+// with k = 0.5 only when the flow expands (A2 > A1), else 0.
+func TestSlopeAreaRectangularExpandingContracting(t *testing.T) {
+	const g = 9.80665
+	for _, tc := range []struct {
+		name          string
+		b1, b2        float64
+		y1, y2        float64
+		n, l, fall    float64
+		wantExpanding bool
+	}{
+		{"expanding", 10, 16, 2.0, 1.9, 0.03, 150, 0.20, true},
+		{"contracting", 16, 10, 2.0, 1.9, 0.03, 150, 0.20, false},
+		{"strong expansion", 6, 20, 1.5, 1.6, 0.04, 100, 0.15, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := []ReachSection{
+				{ID: "up", Geometry: saTrapezoid(t, tc.b1, 0, 50, 6, tc.n), Distance: 1000, Left: 50 + tc.y1, Right: 50 + tc.y1},
+				{ID: "down", Geometry: saTrapezoid(t, tc.b2, 0, 50+tc.y1-tc.fall-tc.y2, 6, tc.n), Distance: 1000 + tc.l,
+					Left: 50 + tc.y1 - tc.fall, Right: 50 + tc.y1 - tc.fall},
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			a1, k1, _ := saTrapezoidAKT(tc.b1, 0, tc.y1, tc.n)
+			a2, k2, _ := saTrapezoidAKT(tc.b2, 0, tc.y2, tc.n)
+			k := 0.0
+			if a2 > a1 {
+				k = 0.5 // Dalrymple & Benson 1967: half the velocity-head drop when expanding
+			}
+			// Hand solution: Q² (L/(K1K2) − (1−k)(1/A1² − 1/A2²)/(2g)) = fall.
+			q := math.Sqrt(tc.fall / (tc.l/(k1*k2) - (1-k)*(1/(a1*a1)-1/(a2*a2))/(2*g)))
+			if saRelErr(res.Discharge, q) > saClosedFormTol {
+				t.Errorf("Q = %.9g, hand solution %.9g", res.Discharge, q)
+			}
+			sr := res.Subreaches[0]
+			if sr.Expanding != tc.wantExpanding || sr.EddyK != k {
+				t.Errorf("expanding %v k %g, want %v k %g", sr.Expanding, sr.EddyK, tc.wantExpanding, k)
+			}
+			// The energy equation balances at the solution.
+			hv1, hv2 := q*q/(2*g*a1*a1), q*q/(2*g*a2*a2)
+			resid := (tc.fall + hv1 - hv2) - (q*q*tc.l/(k1*k2) + k*(hv1-hv2))
+			if math.Abs(resid) > saClosedFormTol*tc.fall {
+				t.Errorf("energy residual %g", resid)
+			}
+			if saRelErr(res.Sections[0].VelocityHead, hv1) > saClosedFormTol || saRelErr(res.Sections[1].VelocityHead, hv2) > saClosedFormTol {
+				t.Errorf("velocity heads %g %g, want %g %g", res.Sections[0].VelocityHead, res.Sections[1].VelocityHead, hv1, hv2)
+			}
+			if saRelErr(res.Sections[0].Alpha, 1) > saClosedFormTol {
+				t.Errorf("alpha of a rectangle with one n = %g, want 1", res.Sections[0].Alpha)
+			}
+		})
+	}
+}
+
+// Three trapezoidal sections, one expanding and one contracting subreach.
+// The test finds Q independently: it bisects on Q until the sum of the
+// energy-equation residuals of both subreaches vanishes, with geometry from
+// the closed-form trapezoid (Chow 1959, table 2-1) and k chosen from the
+// velocity heads as in Dalrymple & Benson (1967).
+func TestSlopeAreaThreeSections(t *testing.T) {
+	const g = 9.80665
+	type xs struct{ b, z, bed, ws, n, dist float64 }
+	reach := []xs{
+		{14, 1.5, 200.0, 202.60, 0.040, 0},
+		{9, 1.0, 199.7, 202.35, 0.035, 180},
+		{18, 2.0, 199.9, 202.05, 0.045, 390},
+	}
+	var secs []ReachSection
+	for i, s := range reach {
+		secs = append(secs, ReachSection{ID: string(rune('A' + i)), Geometry: saTrapezoid(t, s.b, s.z, s.bed, 6, s.n),
+			Distance: s.dist, Left: s.ws + 0.02, Right: s.ws - 0.02})
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	residual := func(q float64) float64 {
+		var sum float64
+		for j := 0; j+1 < len(reach); j++ {
+			u, d := reach[j], reach[j+1]
+			au, ku, _ := saTrapezoidAKT(u.b, u.z, u.ws-u.bed, u.n)
+			ad, kd, _ := saTrapezoidAKT(d.b, d.z, d.ws-d.bed, d.n)
+			hvu, hvd := q*q/(2*g*au*au), q*q/(2*g*ad*ad)
+			k := 0.0
+			if hvu > hvd {
+				k = 0.5
+			}
+			sum += (u.ws + hvu) - (d.ws + hvd) - q*q*(d.dist-u.dist)/(ku*kd) - k*(hvu-hvd)
+		}
+		return sum
+	}
+	lo, hi := 1.0, 1e5
+	for range 200 {
+		mid := (lo + hi) / 2
+		if residual(mid) > 0 {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	if want := (lo + hi) / 2; saRelErr(res.Discharge, want) > saBisectTol {
+		t.Errorf("Q = %.9g, bisection %.9g", res.Discharge, want)
+	}
+	if !(res.Subreaches[0].Expanding == false && res.Subreaches[1].Expanding) {
+		t.Errorf("expanding = %v, %v; want contracting then expanding", res.Subreaches[0].Expanding, res.Subreaches[1].Expanding)
+	}
+	// Water surface is the mean of the two marks.
+	if saRelErr(res.Sections[1].WaterSurface, 202.35) > saClosedFormTol || res.Sections[1].MarksUsed != 2 {
+		t.Errorf("water surface %g from %d marks", res.Sections[1].WaterSurface, res.Sections[1].MarksUsed)
+	}
+	if !(res.SubreachMin <= res.Discharge*1.5 && res.SubreachMax >= res.Discharge/1.5) {
+		t.Errorf("subreach discharges %g..%g far from %g", res.SubreachMin, res.SubreachMax, res.Discharge)
+	}
+}
+
+// The α and conveyance of a section computed for the slope-area method
+// equal those of the rating hydraulics at the same stage (both Chow 1959,
+// section 2-7), for a compound section with three n values.
+func TestSlopeAreaSectionMatchesHydraulics(t *testing.T) {
+	g, err := subdivide.Compile(subdivide.Section{
+		Points: saPoints(0, 5, 20, 3, 30, 2.8, 32, 0.5, 40, 0, 45, 0.4, 47, 2.9, 70, 3.5, 80, 5),
+		N:      []float64{0.06, 0.06, 0.06, 0.035, 0.035, 0.035, 0.08, 0.08},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var st saSectionState
+	if err := saState(g, 3.6, nil, subdivide.Options{}, SI, &st); err != nil {
+		t.Fatal(err)
+	}
+	w, _ := g.At(3.6, subdivide.Options{})
+	row, err := Hydraulics(w, g.Bottom(), 0.001, SI)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if saRelErr(st.k, row.Conveyance) > saClosedFormTol || saRelErr(st.alpha, row.Alpha) > saClosedFormTol {
+		t.Errorf("K %g α %g, hydraulics K %g α %g", st.k, st.alpha, row.Conveyance, row.Alpha)
+	}
+	if !(st.alpha > 1) {
+		t.Errorf("α of a compound section = %g, want > 1", st.alpha)
+	}
+}
+
+func TestSlopeAreaSides(t *testing.T) {
+	g1 := saTrapezoid(t, 10, 1, 100, 5, 0.04)
+	g2 := saTrapezoid(t, 10, 1, 99.8, 5, 0.04)
+	for _, tc := range []struct {
+		side     Side
+		want     float64
+		warnings int
+	}{
+		{MeanSide, 102.05, 0},
+		{LeftSide, 102.0, 0},
+		{RightSide, 102.1, 0},
+	} {
+		secs := []ReachSection{
+			{ID: "A", Geometry: g1, Distance: 0, Left: 102.0, Right: 102.1},
+			{ID: "B", Geometry: g2, Distance: 150, Left: 101.8, Right: math.NaN()},
+		}
+		res, err := SolveSlopeArea(secs, SlopeAreaOptions{Side: tc.side})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if saRelErr(res.Sections[0].WaterSurface, tc.want) > saClosedFormTol {
+			t.Errorf("side %v: water surface %g, want %g", tc.side, res.Sections[0].WaterSurface, tc.want)
+		}
+		if tc.side == RightSide && len(res.Warnings) == 0 {
+			t.Errorf("side right with no right mark at B: no warning")
+		}
+	}
+}
+
+func TestSlopeAreaChecks(t *testing.T) {
+	// Marks 0.3 m apart at A (tolerance 0.15 m), an expanding subreach, a
+	// short reach (L = 60 m against 75 × about 1.9 m).
+	secs := []ReachSection{
+		{ID: "A", Geometry: saTrapezoid(t, 8, 0, 10, 5, 0.035), Distance: 0, Left: 12.15, Right: 11.85},
+		{ID: "B", Geometry: saTrapezoid(t, 12, 0, 9.9, 5, 0.035), Distance: 60, Left: 11.9, Right: 11.9},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]ReachCheck{}
+	for _, c := range res.Checks {
+		got[c.Name] = c
+		if c.Source == "" || c.Relation == "" {
+			t.Errorf("check %s has no source or relation", c.Name)
+		}
+	}
+	for name, pass := range map[string]bool{
+		"mark spread A":              false,
+		"mark spread B":              true,
+		"contracting A to B":         false,
+		"reach length vs mean depth": false,
+		"minimum fall":               false, // fall 0.1 m < 0.15 m
+		"conveyance ratio A to B":    false, // widths 8 and 12
+		"froude A":                   true,
+	} {
+		c, ok := got[name]
+		if !ok {
+			t.Errorf("no check %q", name)
+			continue
+		}
+		if c.Pass != pass {
+			t.Errorf("check %s: pass %v (value %g, limit %g), want %v", name, c.Pass, c.Value, c.Limit, pass)
+		}
+	}
+	if c := got["mark spread A"]; saRelErr(c.Value, 0.3) > saClosedFormTol || c.Limit != MarkSpreadSI {
+		t.Errorf("mark spread A = %g limit %g", c.Value, c.Limit)
+	}
+	if len(res.Warnings) < 5 {
+		t.Errorf("failing checks gave %d warnings: %q", len(res.Warnings), res.Warnings)
+	}
+}
+
+func TestSlopeAreaErrors(t *testing.T) {
+	g := saTrapezoid(t, 10, 1, 100, 3, 0.04)
+	low := saTrapezoid(t, 10, 1, 99.5, 3, 0.04)
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name  string
+		secs  []ReachSection
+		want  error
+		field string
+	}{
+		{"one section", []ReachSection{{ID: "A", Geometry: g, Left: 101, Right: nan}}, ErrTooFewSections, ""},
+		{"zero fall", []ReachSection{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: low, Distance: 100, Left: 101, Right: nan}}, ErrFall, ""},
+		{"negative fall", []ReachSection{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: low, Distance: 100, Left: 101.2, Right: nan}}, ErrFall, ""},
+		{"distance not increasing", []ReachSection{
+			{ID: "A", Geometry: g, Distance: 100, Left: 101, Right: nan},
+			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrDistances, "distance"},
+		{"dry section", []ReachSection{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "water_surface"},
+		{"no mark", []ReachSection{
+			{ID: "A", Geometry: g, Distance: 0, Left: nan, Right: nan},
+			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrNoMark, "water_surface"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := SolveSlopeArea(tc.secs, SlopeAreaOptions{})
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("err = %v, want %v", err, tc.want)
+			}
+			var se *ReachSectionError
+			if tc.field != "" && (!errors.As(err, &se) || se.Field != tc.field) {
+				t.Errorf("err = %#v, want a ReachSectionError on %s", err, tc.field)
+			}
+			if _, err := ReachMonteCarlo(tc.secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10}); !errors.Is(err, tc.want) {
+				t.Errorf("ReachMonteCarlo err = %v, want %v", err, tc.want)
+			}
+		})
+	}
+}
+
+// The single-section fallback is Manning's uniform-flow discharge
+// Q = K·√S (Chow 1959, eq. 6-9) and is labelled as weaker.
+func TestSlopeConveyance(t *testing.T) {
+	g := saTrapezoid(t, 6, 1.5, 10, 4, 0.04)
+	res, err := SlopeConveyance(ReachSection{ID: "X", Geometry: g, Left: 11.8, Right: 11.8}, 0.002, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, k, _ := saTrapezoidAKT(6, 1.5, 1.8, 0.04)
+	if want := k * math.Sqrt(0.002); saRelErr(res.Discharge, want) > saClosedFormTol {
+		t.Errorf("Q = %g, want K√S = %g", res.Discharge, want)
+	}
+	if res.Method != MethodSlopeConveyance || len(res.Warnings) == 0 || len(res.Subreaches) != 0 {
+		t.Errorf("method %q warnings %q", res.Method, res.Warnings)
+	}
+	if _, err := SlopeConveyance(ReachSection{ID: "X", Geometry: g, Left: 11.8}, 0, SlopeAreaOptions{}); !errors.Is(err, ErrSlope) {
+		t.Errorf("zero slope: err = %v", err)
+	}
+}
+
+func TestParseSide(t *testing.T) {
+	for in, want := range map[string]Side{"": MeanSide, "Mean": MeanSide, "left": LeftSide, " RIGHT ": RightSide} {
+		if got, err := ParseSide(in); err != nil || got != want {
+			t.Errorf("ParseSide(%q) = %v, %v", in, got, err)
+		}
+	}
+	if _, err := ParseSide("middle"); err == nil {
+		t.Error("ParseSide(middle): no error")
+	}
+}
+
+// In US customary units the same uniform-flow case uses Manning's 1.486
+// (Chow 1959, eq. 6-9) and the US defaults of the tolerances.
+func TestSlopeAreaUSUnits(t *testing.T) {
+	const b, y, n, f, l = 40.0, 6.0, 0.035, 0.8, 800.0
+	secs := []ReachSection{
+		{ID: "A", Geometry: saTrapezoid(t, b, 0, 300, 15, n), Distance: 0, Left: 300 + y, Right: 300 + y + 0.6},
+		{ID: "B", Geometry: saTrapezoid(t, b, 0, 300-f, 15, n), Distance: l, Left: 300 - f + y, Right: 300 - f + y + 0.6},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: US, Side: LeftSide})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, k, _ := saTrapezoidAKT(b, 0, y, n)
+	if want := 1.486 * k * math.Sqrt(f/l); saRelErr(res.Discharge, want) > saClosedFormTol {
+		t.Errorf("Q = %g ft³/s, want %g", res.Discharge, want)
+	}
+	if res.MarkSpread != MarkSpreadUS || res.MinFall != MinFallUS {
+		t.Errorf("tolerances %g %g", res.MarkSpread, res.MinFall)
+	}
+	// Marks 0.6 ft apart exceed the 0.5 ft tolerance.
+	for _, c := range res.Checks {
+		if c.Name == "mark spread A" && c.Pass {
+			t.Error("0.6 ft mark spread passes a 0.5 ft tolerance")
+		}
+	}
+	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{Units: US}, ReachMonteCarloOptions{Draws: 10})
+	if err != nil || u.MarkSD != DefaultMarkSDUS {
+		t.Errorf("US mark SD %g, %v", u.MarkSD, err)
+	}
+}

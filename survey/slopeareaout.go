@@ -1,0 +1,344 @@
+package survey
+
+import (
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"text/tabwriter"
+
+	"wetline/rating"
+)
+
+// SlopeAreaReport is everything a slope-area report says: the reach as
+// read, the computed result, its uncertainty and the warnings. Writers of
+// other forms (a workbook, plots) take the same value.
+type SlopeAreaReport struct {
+	// Reach is the reach table and surveys as read (nil when the sections
+	// were built otherwise).
+	Reach *Reach
+	// Result is the slope-area (or slope-conveyance) computation.
+	Result rating.SlopeArea
+	// Uncertainty is the Monte Carlo analysis; nil when none was run.
+	Uncertainty *rating.ReachUncertainty
+	// Warnings gathers the reach's, the result's and the analysis's.
+	Warnings []string
+	// Version is the program version stated in the report.
+	Version string
+}
+
+type jsonSASection struct {
+	ID              string `json:"id"`
+	Survey          string `json:"survey,omitempty"`
+	Distance        Float  `json:"distance"`
+	WSLeft          Float  `json:"ws_left"`
+	WSRight         Float  `json:"ws_right"`
+	Quality         string `json:"quality,omitempty"`
+	WaterSurface    Float  `json:"water_surface"`
+	MarksUsed       int    `json:"marks_used"`
+	Bottom          Float  `json:"bottom"`
+	Area            Float  `json:"area"`
+	WettedPerimeter Float  `json:"wetted_perimeter"`
+	TopWidth        Float  `json:"top_width"`
+	HydraulicDepth  Float  `json:"hydraulic_depth"`
+	Conveyance      Float  `json:"conveyance"`
+	Alpha           Float  `json:"alpha"`
+	Velocity        Float  `json:"velocity"`
+	VelocityHead    Float  `json:"velocity_head"`
+	EnergyGrade     Float  `json:"energy_grade"`
+	Froude          Float  `json:"froude"`
+}
+
+type jsonSubreach struct {
+	From               string `json:"from"`
+	To                 string `json:"to"`
+	Length             Float  `json:"length"`
+	Fall               Float  `json:"fall"`
+	Discharge          Float  `json:"discharge"`
+	Expanding          bool   `json:"expanding"`
+	EddyK              Float  `json:"eddy_k"`
+	FrictionLoss       Float  `json:"friction_loss"`
+	VelocityHeadChange Float  `json:"velocity_head_change"`
+	EddyLoss           Float  `json:"eddy_loss"`
+	ConveyanceRatio    Float  `json:"conveyance_ratio"`
+}
+
+type jsonCheck struct {
+	Name     string `json:"name"`
+	Value    Float  `json:"value"`
+	Limit    Float  `json:"limit"`
+	Relation string `json:"relation"`
+	Pass     bool   `json:"pass"`
+	Status   string `json:"status"`
+	Source   string `json:"source"`
+}
+
+type jsonUncertainty struct {
+	P05    Float   `json:"p05"`
+	P50    Float   `json:"p50"`
+	P95    Float   `json:"p95"`
+	Mean   Float   `json:"mean"`
+	SD     Float   `json:"sd"`
+	Draws  int     `json:"draws"`
+	Failed int     `json:"failed"`
+	Seed   uint64  `json:"seed"`
+	NCV    Float   `json:"n_cv"`
+	MarkSD Float   `json:"mark_sd"`
+	WSSD   []Float `json:"water_surface_sd"`
+	DQDN   Float   `json:"dq_dn"`
+	DQDH   []Float `json:"dq_dh"`
+}
+
+// WriteSlopeAreaJSON writes a slope-area report as one JSON object:
+// {"method","discharge","units","side","fall","length","slope",
+// "subreach_min","subreach_max","subreach_spread","sections":[...],
+// "subreaches":[...],"checks":[...],"uncertainty":{...} or null,
+// "warnings":[...],"caution"}. Undefined values are null.
+func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
+	r := rep.Result
+	out := struct {
+		Method         string            `json:"method"`
+		Discharge      Float             `json:"discharge"`
+		Units          map[string]string `json:"units"`
+		Side           string            `json:"side"`
+		Fall           Float             `json:"fall"`
+		Length         Float             `json:"length"`
+		Slope          Float             `json:"slope,omitempty"`
+		SubreachMin    Float             `json:"subreach_min"`
+		SubreachMax    Float             `json:"subreach_max"`
+		SubreachSpread Float             `json:"subreach_spread"`
+		Sections       []jsonSASection   `json:"sections"`
+		Subreaches     []jsonSubreach    `json:"subreaches"`
+		Checks         []jsonCheck       `json:"checks"`
+		Uncertainty    *jsonUncertainty  `json:"uncertainty"`
+		Warnings       []string          `json:"warnings"`
+		Caution        string            `json:"caution"`
+	}{
+		Method: r.Method, Discharge: Float(r.Discharge), Units: UnitNames(r.Units), Side: r.Side.String(),
+		Fall: Float(r.Fall), Length: Float(r.Length), Slope: Float(r.Slope),
+		SubreachMin: Float(r.SubreachMin), SubreachMax: Float(r.SubreachMax), SubreachSpread: Float(r.SubreachSpread),
+		Sections: []jsonSASection{}, Subreaches: []jsonSubreach{}, Checks: []jsonCheck{},
+		Warnings: rep.Warnings, Caution: Caution,
+	}
+	if out.Warnings == nil {
+		out.Warnings = []string{}
+	}
+	for i, s := range r.Sections {
+		js := jsonSASection{ID: s.ID, Distance: Float(s.Distance), WSLeft: Float(s.Left), WSRight: Float(s.Right),
+			WaterSurface: Float(s.WaterSurface), MarksUsed: s.MarksUsed, Bottom: Float(s.Bottom),
+			Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
+			HydraulicDepth: Float(s.HydraulicDepth), Conveyance: Float(s.Conveyance), Alpha: Float(s.Alpha),
+			Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
+			Froude: Float(s.Froude)}
+		if rep.Reach != nil && i < len(rep.Reach.Rows) {
+			js.Survey, js.Quality = rep.Reach.Rows[i].Survey, rep.Reach.Rows[i].Quality
+		}
+		out.Sections = append(out.Sections, js)
+	}
+	for _, s := range r.Subreaches {
+		out.Subreaches = append(out.Subreaches, jsonSubreach{From: s.From, To: s.To, Length: Float(s.Length),
+			Fall: Float(s.Fall), Discharge: Float(s.Discharge), Expanding: s.Expanding, EddyK: Float(s.EddyK),
+			FrictionLoss: Float(s.FrictionLoss), VelocityHeadChange: Float(s.VelocityHeadChange),
+			EddyLoss: Float(s.EddyLoss), ConveyanceRatio: Float(s.ConveyanceRatio)})
+	}
+	for _, c := range r.Checks {
+		out.Checks = append(out.Checks, jsonCheck{Name: c.Name, Value: Float(c.Value), Limit: Float(c.Limit),
+			Relation: c.Relation, Pass: c.Pass, Status: c.Status(), Source: c.Source})
+	}
+	if u := rep.Uncertainty; u != nil {
+		ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
+			SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
+			MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDH: []Float{}}
+		for _, v := range u.DQDH {
+			ju.DQDH = append(ju.DQDH, Float(v))
+		}
+		ju.WSSD = []Float{}
+		for _, v := range u.WaterSurfaceSD {
+			ju.WSSD = append(ju.WSSD, Float(v))
+		}
+		out.Uncertainty = ju
+	}
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(out)
+}
+
+// saFixed formats a value with a fixed number of decimals, "-" when undefined.
+func saFixed(v float64, decimals int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.*f", decimals, v)
+}
+
+// saSig formats a value to 4 significant figures, "-" when undefined.
+func saSig(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.4g", v)
+}
+
+// WriteSlopeAreaText writes a slope-area report for a reviewer: the
+// estimate and its band first, then the inputs, each section and subreach,
+// the checks with their sources, the uncertainty settings and
+// sensitivities, the warnings and the caution.
+func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
+	r := rep.Result
+	u := r.Units
+	L, Q := u.Length(), u.Discharge()
+	var b strings.Builder
+	line := func(format string, a ...any) { fmt.Fprintf(&b, format+"\n", a...) }
+	table := func(header string, rows [][]string) {
+		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
+		fmt.Fprintln(tw, "  "+header)
+		for _, row := range rows {
+			fmt.Fprintln(tw, "  "+strings.Join(row, "\t"))
+		}
+		tw.Flush()
+	}
+
+	title := "Slope-area flood peak"
+	if r.Method == rating.MethodSlopeConveyance {
+		title = "Single-section slope-conveyance flood peak (weaker method)"
+	}
+	if rep.Reach != nil {
+		title += ": " + (&ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+	}
+	line("%s", title)
+	if rep.Version != "" {
+		line("wetline %s, %s units (lengths %s, discharge %s)", rep.Version, strings.ToUpper(u.String()), L, Q)
+	} else {
+		line("%s units (lengths %s, discharge %s)", strings.ToUpper(u.String()), L, Q)
+	}
+	line("")
+	line("Peak discharge  %s %s", saSig(r.Discharge), Q)
+	if un := rep.Uncertainty; un != nil {
+		line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
+			saSig(un.P05), saSig(un.P95), Q, saSig(un.P50), un.Draws-un.Failed)
+	}
+	switch r.Method {
+	case rating.MethodSlopeArea:
+		line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
+		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", saSig(r.SubreachMin), saSig(r.SubreachMax), Q, saFixed(100*r.SubreachSpread, 1))
+		line("  reach         length %s %s, fall %s %s, water surface from %s marks", saFixed(r.Length, 1), L, saFixed(r.Fall, 3), L, saSideWords(r.Side))
+	default:
+		line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
+	}
+
+	line("")
+	line("Inputs (reach table)")
+	rows := [][]string{}
+	for i, s := range r.Sections {
+		row := []string{s.ID, saFixed(s.Distance, 1), saFixed(s.Left, 3), saFixed(s.Right, 3), saFixed(s.WaterSurface, 3), "", "", ""}
+		if rep.Reach != nil && i < len(rep.Reach.Rows) {
+			rr := rep.Reach.Rows[i]
+			row[5], row[6], row[7] = saDash(rr.Quality), rr.Survey, rr.Note
+		}
+		rows = append(rows, row)
+	}
+	table(fmt.Sprintf("section\tdistance %s\tws_left\tws_right\twater surface\tquality\tsurvey\tnote", L), rows)
+
+	line("")
+	line("Sections at the peak discharge")
+	rows = rows[:0]
+	for _, s := range r.Sections {
+		rows = append(rows, []string{s.ID, saFixed(s.Bottom, 3), saFixed(s.WaterSurface-s.Bottom, 2), saFixed(s.Area, 2), saFixed(s.TopWidth, 2),
+			saFixed(s.Conveyance, 0), saFixed(s.Alpha, 3), saFixed(s.Velocity, 2), saFixed(s.VelocityHead, 3), saFixed(s.EnergyGrade, 3), saFixed(s.Froude, 2)})
+	}
+	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
+		u.Area(), u.Conveyance(), u.Velocity()), rows)
+
+	if len(r.Subreaches) > 0 {
+		line("")
+		line("Subreaches (losses at the peak discharge)")
+		rows = rows[:0]
+		for _, s := range r.Subreaches {
+			kind := "contracting"
+			if s.Expanding {
+				kind = "expanding"
+			}
+			rows = append(rows, []string{s.From + " to " + s.To, saFixed(s.Length, 1), saFixed(s.Fall, 3), saSig(s.Discharge), kind,
+				saFixed(s.EddyK, 1), saFixed(s.FrictionLoss, 3), saFixed(s.VelocityHeadChange, 3), saFixed(s.EddyLoss, 3), saFixed(s.ConveyanceRatio, 2)})
+		}
+		table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", Q), rows)
+	}
+
+	line("")
+	pass := 0
+	for _, c := range r.Checks {
+		if c.Pass {
+			pass++
+		}
+	}
+	line("Quality checks (%d of %d pass)", pass, len(r.Checks))
+	rows = rows[:0]
+	for _, c := range r.Checks {
+		rows = append(rows, []string{c.Status(), c.Name, saSig(c.Value) + " " + c.Relation + " " + saSig(c.Limit), c.Source})
+	}
+	table("status\tcheck\tvalue vs limit\tsource", rows)
+
+	if un := rep.Uncertainty; un != nil {
+		line("")
+		line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
+		line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+		line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+		sds := make([]string, 0, len(un.WaterSurfaceSD))
+		for i, v := range un.WaterSurfaceSD {
+			if i < len(r.Sections) {
+				sds = append(sds, r.Sections[i].ID+" "+saFixed(v, 3))
+			}
+		}
+		line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
+		line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", saSig(un.P05), saSig(un.P50), saSig(un.P95), saSig(un.Mean), saSig(un.SD), Q)
+		line("  draws          %d, %d without a solution", un.Draws, un.Failed)
+		line("  dQ/dn          %s %s per 0.001 of every n", saSig(un.DQDN*0.001), Q)
+		parts := make([]string, len(un.DQDH))
+		for i, v := range un.DQDH {
+			id := ""
+			if i < len(r.Sections) {
+				id = r.Sections[i].ID
+			}
+			parts[i] = fmt.Sprintf("%s %s", id, saSigned(v*0.01))
+		}
+		line("  dQ/dh          %s %s per 0.01 %s rise of one water surface", strings.Join(parts, ", "), Q, L)
+	}
+
+	if len(rep.Warnings) > 0 {
+		line("")
+		line("Warnings")
+		for _, s := range rep.Warnings {
+			line("  - %s", s)
+		}
+	}
+	line("")
+	line("Indirect estimates of a flood peak carry large uncertainty: review the marks, the n values and the checks above.")
+	line("Caution: %s", Caution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+func saSideWords(s rating.Side) string {
+	switch s {
+	case rating.LeftSide:
+		return "the left"
+	case rating.RightSide:
+		return "the right"
+	}
+	return "the mean of the left and right"
+}
+
+func saDash(s string) string {
+	if s == "" {
+		return "-"
+	}
+	return s
+}
+
+func saSigned(v float64) string {
+	if math.IsNaN(v) {
+		return "-"
+	}
+	return fmt.Sprintf("%+.4g", v)
+}
