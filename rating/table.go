@@ -128,7 +128,7 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 		Subsections: g.Subsections(),
 		Rows:        make([]Row, 0, len(stages)),
 	}
-	if p, ok := g.(*subdivide.Profile); ok {
+	if p, ok := g.(interface{ Name() string }); ok {
 		t.Name = p.Name()
 	}
 	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
