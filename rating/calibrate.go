@@ -91,7 +91,8 @@ type Calibration struct {
 	// StandardErrorPercent is the weighted standard error of the calibrated
 	// rating against the gaugings, as in Fit (n − 1 degrees of freedom).
 	StandardErrorPercent float64
-	// Points holds each gauging's back-calculated n, in input order.
+	// Points holds each gauging's back-calculated n: one per gauging, in
+	// input order.
 	Points []NPoint
 	// Warnings are facts a reviewer should see.
 	Warnings []string

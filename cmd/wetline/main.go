@@ -35,6 +35,7 @@ type env struct {
 var commands = map[string]command{
 	"rate": {"compute a stage–discharge table from a surveyed section", runRate},
 	"demo": {"write an invented demo site, its rating and reports to a folder", runDemo},
+	"fit":  {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
 }
 
 // usageError marks an error in the command line (exit status 2).
