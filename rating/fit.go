@@ -23,6 +23,10 @@ const (
 	// PoorFitLevel is the significance level at which an F test of one more
 	// segment declares the fit poor (common practice for nested models).
 	PoorFitLevel = 0.01
+	// PoorZeroFlowSE is the standard error of a fitted e, as a fraction of
+	// the gauged stage range, above which e is reported as poorly
+	// determined (a project choice).
+	PoorZeroFlowSE = 0.25
 	// derivStep is the relative step of the central differences that give
 	// the Jacobian for standard errors and the band.
 	derivStep = 1e-6
@@ -36,6 +40,11 @@ const (
 	fitStall = 40
 	// gridZeroFlow is the number of trial zero-flow stages in the start grid.
 	gridZeroFlow = 48
+	// gridZeroFlowBreaks is the number of trial zero-flow stages when
+	// breakpoints are searched as well.
+	gridZeroFlowBreaks = 13
+	// multiStart is the number of best grid points the search starts from.
+	multiStart = 4
 	// gridBreaks bounds the trial breakpoints per break in the start grid.
 	gridBreaks = 24
 )
@@ -393,23 +402,29 @@ func (p *fitProblem) solve() ([]float64, float64, error) {
 	}
 	var best []float64
 	if dim > 0 {
-		best = p.startGrid(obj)
-		if best == nil {
+		starts := p.startGrid(obj)
+		if len(starts) == 0 {
 			return nil, 0, fmt.Errorf("%w: no admissible start (check the breakpoints and the spread of stages)", ErrFewGaugings)
 		}
-		// Two passes: a restart from the first optimum guards against a
-		// collapsed simplex.
-		for pass := 0; pass < 2; pass++ {
-			res, err := optimize.Minimize(optimize.Problem{Func: obj}, best, &optimize.Settings{
-				Converger:       &optimize.FunctionConverge{Relative: fitRelTol, Iterations: fitStall},
-				MajorIterations: 20000,
-				FuncEvaluations: 100000,
-			}, &optimize.NelderMead{SimplexSize: 0.05})
-			if res == nil {
-				return nil, 0, fmt.Errorf("rating fit: %w", err)
+		bestF := math.Inf(1)
+		for _, x := range starts {
+			// Two passes from each start: a restart from the first
+			// optimum guards against a collapsed simplex.
+			for pass := 0; pass < 2; pass++ {
+				res, err := optimize.Minimize(optimize.Problem{Func: obj}, x, &optimize.Settings{
+					Converger:       &optimize.FunctionConverge{Relative: fitRelTol, Iterations: fitStall},
+					MajorIterations: 20000,
+					FuncEvaluations: 100000,
+				}, &optimize.NelderMead{SimplexSize: 0.05})
+				if res == nil {
+					return nil, 0, fmt.Errorf("rating fit: %w", err)
+				}
+				if res.F <= obj(x) {
+					x = res.X
+				}
 			}
-			if res.F <= obj(best) {
-				best = res.X
+			if f := obj(x); f < bestF {
+				bestF, best = f, x
 			}
 		}
 	}
@@ -429,14 +444,20 @@ func (p *fitProblem) solve() ([]float64, float64, error) {
 	return theta, ssr, nil
 }
 
-// startGrid returns the best point of a grid over the search variables.
-func (p *fitProblem) startGrid(obj func([]float64) float64) []float64 {
+// startGrid returns the best points of a grid over the search variables
+// (best first: one, or multiStart when breakpoints are searched, since
+// several starts guard against the local minima of segmented fits).
+func (p *fitProblem) startGrid(obj func([]float64) float64) [][]float64 {
 	span := p.hi - p.lo
 	var zs []float64
 	if !p.opt.ZeroFlowFixed {
 		// lo − e from 10⁻⁴ to 10² stage spans, evenly in the logarithm.
-		for i := 0; i < gridZeroFlow; i++ {
-			d := span * math.Pow(10, -4+6*float64(i)/float64(gridZeroFlow-1))
+		ng := gridZeroFlow
+		if p.opt.Breaks == nil && p.segments > 1 {
+			ng = gridZeroFlowBreaks
+		}
+		for i := 0; i < ng; i++ {
+			d := span * math.Pow(10, -4+6*float64(i)/float64(ng-1))
 			zs = append(zs, math.Log(d))
 		}
 	}
@@ -453,12 +474,34 @@ func (p *fitProblem) startGrid(obj func([]float64) float64) []float64 {
 			cands = append(cands, mids[int(x)])
 		}
 	}
-	var best []float64
-	bestF := math.Inf(1)
+	type start struct {
+		x []float64
+		f float64
+	}
+	var top []start // ascending f
+	keep := 1
+	if p.opt.Breaks == nil && p.segments > 1 {
+		keep = multiStart
+	}
 	try := func(v []float64) {
-		if f := obj(v); f < bestF {
-			bestF, best = f, append([]float64(nil), v...)
+		f := obj(v)
+		if math.IsInf(f, 1) || (len(top) == keep && f >= top[len(top)-1].f) {
+			return
 		}
+		i := sort.Search(len(top), func(i int) bool { return top[i].f > f })
+		top = append(top, start{})
+		copy(top[i+1:], top[i:])
+		top[i] = start{append([]float64(nil), v...), f}
+		if len(top) > keep {
+			top = top[:keep]
+		}
+	}
+	result := func() [][]float64 {
+		out := make([][]float64, len(top))
+		for i, s := range top {
+			out[i] = s.x
+		}
+		return out
 	}
 	var breakSets [][]float64
 	switch {
@@ -479,14 +522,14 @@ func (p *fitProblem) startGrid(obj func([]float64) float64) []float64 {
 		for _, b := range breakSets {
 			try(b)
 		}
-		return best
+		return result()
 	}
 	for _, z := range zs {
 		for _, b := range breakSets {
 			try(append([]float64{z}, b...))
 		}
 	}
-	return best
+	return result()
 }
 
 // split returns e, β and the breakpoints held in theta.
@@ -624,6 +667,11 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 			f.Segments[j].CoefficientSE = math.Sqrt(f.quad(gc))
 			f.Segments[j].ExponentSE = math.Sqrt(f.quad(gb))
 		}
+	}
+	if span := f.HighStage - f.LowStage; !f.ZeroFlowFixed && f.ZeroFlowSE > PoorZeroFlowSE*span {
+		f.Warnings = append(f.Warnings, fmt.Sprintf(
+			"the gaugings barely determine the gauge height of zero flow (e = %.3g ± %.2g, more than %.0f %% of the gauged range): fix it from the control or fit fewer segments",
+			f.ZeroFlow, f.ZeroFlowSE, 100*PoorZeroFlowSE))
 	}
 	for j, b := range f.Segments {
 		if !(b.Exponent > 0) {

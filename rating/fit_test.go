@@ -148,13 +148,13 @@ func TestFitNoiseStandardErrorAndBand(t *testing.T) {
 	const (
 		sigma = 0.05
 		n     = 30
-		reps  = 150
+		reps  = 100
 		e, c  = 0.3, 10.0
 		b     = 1.9
 	)
 	rng := rand.New(rand.NewPCG(1, 1))
 	stages := linspace(0.6, 3.5, n)
-	probe := []float64{0.7, 1.5, 3.0}
+	probe := []float64{0.7, 1.2, 2.0, 3.0}
 	covered, total := 0, 0
 	var ratioSum float64
 	for r := 0; r < reps; r++ {

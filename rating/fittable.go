@@ -68,7 +68,8 @@ type FitTable struct {
 	// ScaleFactor is the factor on the hydraulic rating above the highest
 	// gauging: the fitted discharge divided by the hydraulic discharge at
 	// ScaleStage, the highest gauging's gauge height (NaN without a
-	// section). ScaleNote says so in words.
+	// section). ScaleNote says so in words, or says that the table stops
+	// at the highest gauging.
 	ScaleFactor, ScaleStage float64
 	ScaleNote               string
 	// Warnings are facts a reviewer should see.
@@ -121,6 +122,9 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 				"above the highest gauging (%g %s) the table follows the hydraulic rating times %.4f, the fitted discharge %.4g over the hydraulic discharge %.4g %s at that gauge height",
 				f.HighStage, u.Length(), t.ScaleFactor, f.Discharge(f.HighStage), qh, u.Discharge())
 		}
+	}
+	if c == nil {
+		t.ScaleNote = fmt.Sprintf("no section given: the table ends at the highest gauging (%g %s), with no extrapolation above it", f.HighStage, u.Length())
 	}
 	if opt.To != 0 {
 		if opt.To > top {
