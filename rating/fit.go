@@ -768,8 +768,8 @@ func (f *Fit) Discharge(h float64) float64 {
 //
 // with g the gradient of ln Q̂ in the parameters, Σ their covariance and t
 // Student's quantile with n − p degrees of freedom (the delta method;
-// Seber & Wild, 1989, Nonlinear Regression, section 5.1). NaN when the
-// covariance is not available or h ≤ e.
+// Seber & Wild, 1989, Nonlinear Regression, Wiley, chapter 5, from
+// memory). NaN when the covariance is not available or h ≤ e.
 func (f *Fit) Band(h float64) (lo, hi float64) {
 	if f.cov == nil || !(h > f.ZeroFlow) {
 		return math.NaN(), math.NaN()

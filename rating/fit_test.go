@@ -122,7 +122,8 @@ func TestFitFixedZeroFlowMatchesRegression(t *testing.T) {
 		t.Errorf("fit C=%g b=%g, regression C=%g b=%g", f.Segments[0].Coefficient, f.Segments[0].Exponent, math.Exp(alpha), beta)
 	}
 	// Standard error of the slope of a weighted line (closed form,
-	// e.g. Draper & Smith, 1998, Applied Regression Analysis, section 9.2):
+	// e.g. Draper & Smith, 1998, Applied Regression Analysis, the weighted
+	// straight line, from memory):
 	// s·√(1/Σw(x−x̄)²) with weights normalised to mean one.
 	var sw, swx float64
 	for i := range x {
