@@ -161,6 +161,9 @@ func Calibrate(gs []Gauging, c HydraulicCurve, channelOnly bool) (Calibration, e
 		return cal, errors.Join(errs...)
 	}
 	if len(parts) == 0 {
+		if len(cal.Warnings) > 0 {
+			return cal, fmt.Errorf("%w (check --datum: elevation = gauge height + datum), e.g. %s", ErrCalibrate, cal.Warnings[len(cal.Warnings)-1])
+		}
 		return cal, ErrCalibrate
 	}
 	ssr := func(lf float64) float64 {

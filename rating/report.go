@@ -1,6 +1,7 @@
 package rating
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -81,14 +82,14 @@ func GaugingsReport(gs []Gauging, opt ReportOptions) (*GaugingReport, error) {
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
 		cal, err := Calibrate(gs, *c, opt.ChannelOnly)
-		if err != nil && err != ErrCalibrate {
+		if err != nil && !errors.Is(err, ErrCalibrate) {
 			return nil, err
 		}
 		r.Warnings = append(r.Warnings, cal.Warnings...)
 		if err == nil {
 			r.Calibration = &cal
 		} else {
-			r.Warnings = append(r.Warnings, "no gauging can calibrate n")
+			r.Warnings = append(r.Warnings, err.Error())
 		}
 		if err := r.curve(c); err != nil {
 			return nil, err
