@@ -45,7 +45,7 @@ type CurvePoint struct {
 // and plot writers alike. Fields that do not apply are nil.
 type GaugingReport struct {
 	// Site, Units and Datum (elevation of the gauge's zero in the survey's
-	// datum; 0 without a section) describe the data.
+	// datum; NaN without a section) describe the data.
 	Site  string
 	Units Units
 	Datum float64
@@ -68,7 +68,7 @@ type GaugingReport struct {
 
 // GaugingsReport compares, calibrates and fits gaugings as opt says.
 func GaugingsReport(gs []Gauging, opt ReportOptions) (*GaugingReport, error) {
-	r := &GaugingReport{Site: opt.Site, Units: opt.Units, Slope: math.NaN(), Gaugings: gs}
+	r := &GaugingReport{Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
 	c := opt.Hydraulic
 	if c == nil && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and e from the survey's control need a section")

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
 
@@ -92,6 +93,9 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	warnings = append(warnings, gs.Warnings...)
+	if opt.Site == "" {
+		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+	}
 	rep, err := rating.GaugingsReport(gs.Gaugings, opt)
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
