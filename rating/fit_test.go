@@ -55,15 +55,21 @@ func TestFitNoiseFree(t *testing.T) {
 		stages   []float64
 		tol      float64 // relative, on C, e, b and the breaks
 		segments int
+		given    bool // e and the breaks given, not fitted
 	}{
-		{"one segment", 0.35, 12.5, []float64{1.7}, nil, linspace(0.5, 3.0, 20), 1e-6, 1},
-		{"one segment, large offset", 101.2, 4.0, []float64{2.3}, nil, linspace(101.4, 104.0, 15), 1e-6, 1},
-		{"two segments", 0.2, 8, []float64{2.4, 1.6}, []float64{1.5}, linspace(0.4, 4.0, 40), 1e-6, 2},
-		{"three segments", 0.1, 5, []float64{2.8, 1.9, 1.4}, []float64{1.0, 2.5}, linspace(0.3, 5.0, 48), 1e-6, 3},
+		{"one segment", 0.35, 12.5, []float64{1.7}, nil, linspace(0.5, 3.0, 20), 1e-6, 1, false},
+		{"one segment, large offset", 101.2, 4.0, []float64{2.3}, nil, linspace(101.4, 104.0, 15), 1e-6, 1, false},
+		{"two segments", 0.2, 8, []float64{2.4, 1.6}, []float64{1.5}, linspace(0.4, 4.0, 40), 1e-6, 2, false},
+		{"three segments", 0.1, 5, []float64{2.8, 1.9, 1.4}, []float64{1.0, 2.5}, linspace(0.3, 5.0, 48), 1e-6, 3, false},
+		{"three segments, e and breaks given", 0.1, 5, []float64{2.8, 1.9, 1.4}, []float64{1.0, 2.5}, linspace(0.3, 5.0, 20), 1e-9, 3, true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			gs := law(tc.e, tc.c1, tc.b, tc.breaks, tc.stages, rating.Good)
-			f, err := rating.FitPowerLaw(gs, rating.FitOptions{Segments: tc.segments})
+			opt := rating.FitOptions{Segments: tc.segments}
+			if tc.given {
+				opt = rating.FitOptions{Breaks: tc.breaks, ZeroFlowFixed: true, ZeroFlow: tc.e}
+			}
+			f, err := rating.FitPowerLaw(gs, opt)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -190,6 +196,7 @@ func TestFitNoiseStandardErrorAndBand(t *testing.T) {
 		t.Errorf("mean s/σ = %g over %d sets, want about 1", m, reps)
 	}
 	frac := float64(covered) / float64(total)
+	t.Logf("coverage %.3f of %d, mean s/σ %.3f", frac, total, ratioSum/reps)
 	// Binomial limits for 95 % over the probes, widened for their
 	// correlation within a data set (about four standard deviations).
 	if frac < 0.90 || frac > 0.99 {
