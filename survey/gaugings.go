@@ -153,7 +153,11 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 	add := func(rec Record, col int, err error) {
 		errs = append(errs, t.At(rec, col, err))
 	}
-	seen := map[time.Time]int{} // time → row
+	type instant struct {
+		sec  int64
+		nsec int
+	}
+	seen := map[instant]int{} // time → row; offsets count, so 10:00+01:00 is 09:00Z
 	number := func(rec Record, col int, what string) (float64, bool) {
 		v, ok, err := t.Float(rec, col)
 		if err != nil {
@@ -176,10 +180,11 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 			okAll = false
 		} else {
 			g.Time = tm
-			if prev, dup := seen[tm]; dup {
+			key := instant{tm.Unix(), tm.Nanosecond()}
+			if prev, dup := seen[key]; dup {
 				add(rec, ct, fmt.Errorf("%w: the same time as row %d", ErrDuplicateTime, prev))
 			} else {
-				seen[tm] = rec.Row
+				seen[key] = rec.Row
 			}
 		}
 		var ok bool

@@ -45,6 +45,7 @@ func TestParseGaugingsErrors(t *testing.T) {
 		{"bad date", "time,stage,discharge\n2024-13-45,1,3\n", []string{"g.csv:2:1", `time "2024-13-45"`}, ErrBadTime},
 		{"serial in csv", "time,stage,discharge\n45000,1,3\n", []string{"g.csv:2:1"}, ErrSerialInCSV},
 		{"duplicate time", "time,stage,discharge\n2024-01-01T10:00,1,3\n2024-01-01T10:00,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
+		{"duplicate instant", "time,stage,discharge\n2024-01-01T10:00+01:00,1,3\n2024-01-01T09:00:00Z,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
 		{"blank stage", "time,stage,discharge\n2024-01-01,,3\n", []string{"g.csv:2:2", "stage is blank"}, ErrNotNumber},
 		{"quality word", "time,stage,discharge,quality\n2024-01-01,1,3,superb\n", []string{"g.csv:2:4"}, rating.ErrQuality},
 		{"no discharge column", "time,stage,flow\n2024-01-01,1,3\n", []string{"discharge"}, ErrMissingColumn},
