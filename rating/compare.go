@@ -15,6 +15,10 @@ const StageTolerance = 1e-7
 // maxBisect bounds the bisection steps of an inversion.
 const maxBisect = 200
 
+// maxExpand bounds how many section depths an inversion searches above
+// the section's lower end (on extended ends) for a large discharge.
+const maxExpand = 10
+
 // ErrNoStage is returned when no stage of a rating carries a discharge.
 var ErrNoStage = errors.New("no stage of the rating carries this discharge")
 
@@ -72,7 +76,7 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 		if qh >= q {
 			break
 		}
-		if i == 10 || c.Options.Geometry.NoExtend {
+		if i == maxExpand || c.Options.Geometry.NoExtend {
 			return math.NaN(), fmt.Errorf("discharge %g is above %g at gauge height %g: %w", q, qh, hi, ErrNoStage)
 		}
 		lo, hi = hi, hi+depth
