@@ -18,24 +18,24 @@ func init() {
 	}
 }
 
-// updating reports whether golden files are to be rewritten (-update).
-func updating() bool {
+// fitUpdating reports whether golden files are to be rewritten (-update).
+func fitUpdating() bool {
 	f := flag.Lookup("update")
 	return f != nil && f.Value.String() == "true"
 }
 
-func runArgs(t *testing.T, args ...string) (string, string, error) {
+func fitRun(t *testing.T, args ...string) (string, string, error) {
 	t.Helper()
 	var out, errb bytes.Buffer
 	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
 	return out.String(), errb.String(), err
 }
 
-// golden compares got with testdata/name, or rewrites it with -update.
-func golden(t *testing.T, name, got string) {
+// fitGolden compares got with testdata/name, or rewrites it with -update.
+func fitGolden(t *testing.T, name, got string) {
 	t.Helper()
 	path := filepath.Join("testdata", name)
-	if updating() {
+	if fitUpdating() {
 		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
 			t.Fatal(err)
 		}
@@ -51,8 +51,8 @@ func golden(t *testing.T, name, got string) {
 }
 
 const (
-	demoG = "demodata/tallow-gaugings.csv"
-	demoS = "demodata/tallow-xs1.csv"
+	fitDemoGaugings = "demodata/tallow-gaugings.csv"
+	fitDemoSurvey = "demodata/tallow-xs1.csv"
 )
 
 func TestFitGolden(t *testing.T) {
@@ -60,18 +60,18 @@ func TestFitGolden(t *testing.T) {
 		name string
 		args []string
 	}{
-		{"fit-demo.txt", []string{"fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100"}},
-		{"fit-demo-2seg.txt", []string{"fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only"}},
-		{"fit-demo-control.csv", []string{"fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100", "--zero-flow", "control", "--format", "csv"}},
-		{"fit-demo-compare.csv", []string{"fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100", "--compare-only", "--format", "csv"}},
-		{"fit-nosection.txt", []string{"fit", demoG, "--zero-flow", "0.3", "--step", "0.25"}},
+		{"fit-demo.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}},
+		{"fit-demo-2seg.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only"}},
+		{"fit-demo-control.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--zero-flow", "control", "--format", "csv"}},
+		{"fit-demo-compare.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--compare-only", "--format", "csv"}},
+		{"fit-nosection.txt", []string{"fit", fitDemoGaugings, "--zero-flow", "0.3", "--step", "0.25"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			out, _, err := runArgs(t, tc.args...)
+			out, _, err := fitRun(t, tc.args...)
 			if err != nil {
 				t.Fatal(err)
 			}
-			golden(t, tc.name, out)
+			fitGolden(t, tc.name, out)
 		})
 	}
 }
@@ -82,7 +82,7 @@ func TestFitGolden(t *testing.T) {
 // shift; table rows with stage, discharge and extrapolated; the datum and
 // the caution.
 func TestFitJSONContract(t *testing.T) {
-	out, _, err := runArgs(t, "fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100", "--format", "json")
+	out, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--format", "json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -133,7 +133,7 @@ func TestFitBadGaugingsWritesNothing(t *testing.T) {
 				t.Fatal(err)
 			}
 			out := filepath.Join(dir, "out.json")
-			_, _, err := runArgs(t, append([]string{"fit", in, "-o", out}, tc.args...)...)
+			_, _, err := fitRun(t, append([]string{"fit", in, "-o", out}, tc.args...)...)
 			if err == nil {
 				t.Fatal("no error")
 			}
@@ -152,18 +152,18 @@ func TestFitBadGaugingsWritesNothing(t *testing.T) {
 func TestFitUsageErrors(t *testing.T) {
 	for _, args := range [][]string{
 		{"fit"},
-		{"fit", demoG, "--slope", "0.001"},
-		{"fit", demoG, "--section", demoS},
-		{"fit", demoG, "--compare-only"},
-		{"fit", demoG, "--zero-flow", "control"},
-		{"fit", demoG, "--zero-flow", "low"},
-		{"fit", demoG, "--segments", "4"},
-		{"fit", demoG, "--segments", "3", "--breaks", "1"},
-		{"fit", demoG, "--format", "xml"},
-		{"fit", demoG, "--section", demoS, "--slope", "0.0012", "--compare-only", "--segments", "2"},
-		{"rate", demoS, "--slope", "0.0012", "--datum", "100"},
+		{"fit", fitDemoGaugings, "--slope", "0.001"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey},
+		{"fit", fitDemoGaugings, "--compare-only"},
+		{"fit", fitDemoGaugings, "--zero-flow", "control"},
+		{"fit", fitDemoGaugings, "--zero-flow", "low"},
+		{"fit", fitDemoGaugings, "--segments", "4"},
+		{"fit", fitDemoGaugings, "--segments", "3", "--breaks", "1"},
+		{"fit", fitDemoGaugings, "--format", "xml"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only", "--segments", "2"},
+		{"rate", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"},
 	} {
-		_, _, err := runArgs(t, args...)
+		_, _, err := fitRun(t, args...)
 		var ue usageError
 		if !errors.As(err, &ue) {
 			t.Errorf("%q: err = %v, want a usage error", args, err)
@@ -174,11 +174,11 @@ func TestFitUsageErrors(t *testing.T) {
 // Refusing to extrapolate past the section's lower end (104.8 m, gauge
 // height 4.8 m) or above the gaugings without a section.
 func TestFitRefusesPastSection(t *testing.T) {
-	_, _, err := runArgs(t, "fit", demoG, "--section", demoS, "--slope", "0.0012", "--datum", "100", "--to", "5")
+	_, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "5")
 	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
 		t.Errorf("past the section: err = %v", err)
 	}
-	_, _, err = runArgs(t, "fit", demoG, "--to", "3.5")
+	_, _, err = fitRun(t, "fit", fitDemoGaugings, "--to", "3.5")
 	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
 		t.Errorf("no section: err = %v", err)
 	}
@@ -186,7 +186,7 @@ func TestFitRefusesPastSection(t *testing.T) {
 
 // rate --calibrate scales n by the best factor and says so in the report.
 func TestRateCalibrate(t *testing.T) {
-	out, _, err := runArgs(t, "rate", demoS, "--slope", "0.0012", "--calibrate", demoG, "--datum", "100", "--format", "json")
+	out, _, err := fitRun(t, "rate", fitDemoSurvey, "--slope", "0.0012", "--calibrate", fitDemoGaugings, "--datum", "100", "--format", "json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -212,7 +212,7 @@ func TestRateCalibrate(t *testing.T) {
 
 func TestDemoWritesFit(t *testing.T) {
 	dir := t.TempDir()
-	out, _, err := runArgs(t, "demo", "-o", dir)
+	out, _, err := fitRun(t, "demo", "-o", dir)
 	if err != nil {
 		t.Fatal(err)
 	}
