@@ -8,19 +8,19 @@ import (
 	"wetline/subdivide"
 )
 
-// StageTolerance is the width (length unit) to which a stage is found by
+// ShiftTolerance is the width (length unit) to which a stage is found by
 // bisection when a rating is inverted (a shift, a stage for a discharge).
-const StageTolerance = 1e-7
+const ShiftTolerance = 1e-7
 
-// maxBisect bounds the bisection steps of an inversion.
-const maxBisect = 200
+// shiftMaxBisect bounds the bisection steps of an inversion.
+const shiftMaxBisect = 200
 
-// maxExpand bounds how many section depths an inversion searches above
+// shiftMaxExpand bounds how many section depths an inversion searches above
 // the section's lower end (on extended ends) for a large discharge.
-const maxExpand = 10
+const shiftMaxExpand = 10
 
-// ErrNoStage is returned when no stage of a rating carries a discharge.
-var ErrNoStage = errors.New("no stage of the rating carries this discharge")
+// ErrNoStageForDischarge is returned when no stage of a rating carries a discharge.
+var ErrNoStageForDischarge = errors.New("no stage of the rating carries this discharge")
 
 // HydraulicCurve is the hydraulic rating of a section read at gauge
 // heights: the stage (elevation) for gauge height h is h + Datum.
@@ -57,11 +57,11 @@ func (c HydraulicCurve) Top() float64 { return c.Geometry.Top() - c.Datum }
 
 // Stage returns the gauge height at which the curve carries q > 0, by
 // bisection between the bottom and the top of the section (and above the
-// top, on extended ends, when the options allow), to StageTolerance. The
+// top, on extended ends, when the options allow), to ShiftTolerance. The
 // curve is taken to rise with stage.
 func (c HydraulicCurve) Stage(q float64) (float64, error) {
 	if !(q > 0) || math.IsInf(q, 0) {
-		return math.NaN(), fmt.Errorf("discharge %g: %w", q, ErrNoStage)
+		return math.NaN(), fmt.Errorf("discharge %g: %w", q, ErrNoStageForDischarge)
 	}
 	lo, hi := c.Bottom(), c.Top()
 	depth := hi - lo
@@ -76,12 +76,12 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 		if qh >= q {
 			break
 		}
-		if i == maxExpand || c.Options.Geometry.NoExtend {
-			return math.NaN(), fmt.Errorf("discharge %g is above %g at gauge height %g: %w", q, qh, hi, ErrNoStage)
+		if i == shiftMaxExpand || c.Options.Geometry.NoExtend {
+			return math.NaN(), fmt.Errorf("discharge %g is above %g at gauge height %g: %w", q, qh, hi, ErrNoStageForDischarge)
 		}
 		lo, hi = hi, hi+depth
 	}
-	for i := 0; i < maxBisect && hi-lo > StageTolerance; i++ {
+	for i := 0; i < shiftMaxBisect && hi-lo > ShiftTolerance; i++ {
 		mid := 0.5 * (lo + hi)
 		qm, err := c.Discharge(mid)
 		if err != nil {
@@ -100,7 +100,7 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 type Comparison struct {
 	// Residuals holds each gauging against the rating (Fitted is the rated
 	// discharge at the gauging's gauge height), in input order.
-	Residuals []Residual
+	Residuals []GaugingResidual
 	// Datum is the elevation of the gauge's zero used.
 	Datum float64
 	// Outside counts the departures outside their quality bands.
@@ -117,7 +117,7 @@ type Comparison struct {
 // the stage shift that would make the rating pass through it, and whether
 // the departure lies outside its quality band (see Quality.Outside).
 func Compare(gs []Gauging, c HydraulicCurve) (Comparison, error) {
-	cmp := Comparison{Datum: c.Datum, Residuals: make([]Residual, len(gs))}
+	cmp := Comparison{Datum: c.Datum, Residuals: make([]GaugingResidual, len(gs))}
 	var sum float64
 	n := 0
 	var errs []error

@@ -18,8 +18,8 @@ const (
 	// MinPerSegment is the fewest gaugings a segment must hold (a project
 	// choice: two determine a line, a third gives it a residual).
 	MinPerSegment = 3
-	// ConfidenceLevel is the level of the band around the mean relation.
-	ConfidenceLevel = 0.95
+	// FitBandLevel is the level of the band around the mean relation.
+	FitBandLevel = 0.95
 	// PoorFitLevel is the significance level at which an F test of one more
 	// segment declares the fit poor (common practice for nested models).
 	PoorFitLevel = 0.01
@@ -27,12 +27,12 @@ const (
 	// the gauged stage range, above which e is reported as poorly
 	// determined (a project choice).
 	PoorZeroFlowSE = 0.25
-	// derivStep is the relative step of the central differences that give
+	// fitDerivStep is the relative step of the central differences that give
 	// the Jacobian for standard errors and the band.
-	derivStep = 1e-6
-	// zeroSSR is the residual sum of squares (ln units², per gauging) below
+	fitDerivStep = 1e-6
+	// fitZeroSSR is the residual sum of squares (ln units², per gauging) below
 	// which data are taken to be free of noise and no F test is made.
-	zeroSSR = 1e-20
+	fitZeroSSR = 1e-20
 	// fitRelTol is the relative improvement of the objective below which
 	// the simplex search counts an iteration as no progress.
 	fitRelTol = 1e-13
@@ -96,8 +96,8 @@ type PowerSegment struct {
 	Exponent, ExponentSE float64
 }
 
-// Residual is a gauging's departure from a fitted or rated curve.
-type Residual struct {
+// GaugingResidual is a gauging's departure from a fitted or rated curve.
+type GaugingResidual struct {
 	Gauging
 	// Fitted is the curve's discharge at the gauging's stage.
 	Fitted float64
@@ -163,7 +163,7 @@ type Fit struct {
 	// LowStage and HighStage are the lowest and highest gauging fitted.
 	LowStage, HighStage float64
 	// Residuals holds every gauging's departure, in input order.
-	Residuals []Residual
+	Residuals []GaugingResidual
 	// PoorFit reports that one more segment fits significantly better
 	// (F test at PoorFitLevel); MoreSegmentsF and MoreSegmentsP are that
 	// test's statistic and p-value (NaN when not made).
@@ -270,7 +270,7 @@ func FitPowerLaw(gs []Gauging, opt FitOptions) (*Fit, error) {
 	}
 	f.theta = theta
 	f.finish(p, ssr, gs)
-	if !opt.noTest && opt.Breaks == nil && k < MaxSegments && n >= (k+1)*MinPerSegment && n > f.Params+3 && ssr > zeroSSR*float64(n) {
+	if !opt.noTest && opt.Breaks == nil && k < MaxSegments && n >= (k+1)*MinPerSegment && n > f.Params+3 && ssr > fitZeroSSR*float64(n) {
 		more := opt
 		more.Segments, more.noTest = k+1, true
 		if g, err := FitPowerLaw(gs, more); err == nil {
@@ -605,7 +605,7 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 	s2 := ssr / float64(df)
 	f.StandardErrorLog = math.Sqrt(s2)
 	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
-	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + ConfidenceLevel/2)
+	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
 
 	// Covariance s²·(JᵀWJ)⁻¹ with J the Jacobian of ln Q in theta.
 	np := len(f.theta)
@@ -679,7 +679,7 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 		}
 	}
 	// Residuals in input order.
-	f.Residuals = make([]Residual, len(gs))
+	f.Residuals = make([]GaugingResidual, len(gs))
 	wi := 0
 	var wsum float64
 	for _, g := range gs {
@@ -701,8 +701,8 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 
 // residualOf measures a gauging against a curve's discharge q at its stage;
 // inverse returns the curve's stage for a discharge (NaN when none).
-func residualOf(g Gauging, q float64, inverse func(float64) float64) Residual {
-	r := Residual{Gauging: g, Fitted: q, DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
+func residualOf(g Gauging, q float64, inverse func(float64) float64) GaugingResidual {
+	r := GaugingResidual{Gauging: g, Fitted: q, DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
 	if q > 0 {
 		r.DeparturePercent = 100 * (g.Discharge - q) / q
 		r.OutsideBand = g.Quality.Outside(r.DeparturePercent)
@@ -728,7 +728,7 @@ func (f *Fit) step(a, k int) float64 {
 	} else {
 		scale = math.Max(1, math.Abs(f.theta[a]))
 	}
-	return derivStep * scale
+	return fitDerivStep * scale
 }
 
 // gradient is ∂lnQ/∂θ at stage h by central differences.
@@ -762,7 +762,7 @@ func (f *Fit) Discharge(h float64) float64 {
 	return math.Exp(f.logQ(f.theta, len(f.Segments), h))
 }
 
-// Band returns the ConfidenceLevel band of the mean relation at h,
+// Band returns the FitBandLevel band of the mean relation at h,
 //
 //	exp(ln Q̂ ± t·√(gᵀ·Σ·g)),
 //

@@ -35,7 +35,7 @@ func (b Basis) String() string {
 type FitRow struct {
 	// Stage is the gauge height (length unit); Discharge the table's value.
 	Stage, Discharge float64
-	// Lower and Upper bound the ConfidenceLevel band of the mean fitted
+	// Lower and Upper bound the FitBandLevel band of the mean fitted
 	// relation (NaN on hydraulic rows and where not available).
 	Lower, Upper float64
 	// Hydraulic is the unscaled hydraulic discharge (NaN without a section).

@@ -47,14 +47,14 @@ func WriteGaugingReportCSV(w io.Writer, r *rating.GaugingReport) error {
 			rec = append(rec, "", "", "", "")
 		}
 		f, n := calPoint(r, i)
-		rec = append(rec, FormatFloat(f), FormatFloat(n), csvText(g.Source))
+		rec = append(rec, FormatFloat(f), FormatFloat(n), fitCSVText(g.Source))
 		writeRecord(bw, rec)
 	}
 	return bw.Flush()
 }
 
 // csvText quotes a CSV field when it needs it.
-func csvText(s string) string {
+func fitCSVText(s string) string {
 	if strings.ContainsAny(s, ",\"\n\r") {
 		return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
 	}
@@ -226,18 +226,18 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 		if f.ZeroFlowFixed {
 			p("  e = %.4f %s (%s)\n", f.ZeroFlow, L, f.ZeroFlowSource)
 		} else {
-			p("  e = %.4f ± %s %s (fitted)\n", f.ZeroFlow, sig(f.ZeroFlowSE, 2), L)
+			p("  e = %.4f ± %s %s (fitted)\n", f.ZeroFlow, fitSig(f.ZeroFlowSE, 2), L)
 		}
 		for i, b := range f.Breaks {
 			if f.BreaksFixed {
 				p("  breakpoint %d at %.4f %s (given)\n", i+1, b, L)
 			} else {
-				p("  breakpoint %d at %.4f ± %s %s\n", i+1, b, sig(f.BreaksSE[i], 2), L)
+				p("  breakpoint %d at %.4f ± %s %s\n", i+1, b, fitSig(f.BreaksSE[i], 2), L)
 			}
 		}
 		for i, s := range f.Segments {
 			p("  segment %d, %.3f to %.3f %s: C = %s ± %s, b = %.4f ± %s\n", i+1, s.From, s.To, L,
-				sig(s.Coefficient, 5), sig(s.CoefficientSE, 2), s.Exponent, sig(s.ExponentSE, 2))
+				fitSig(s.Coefficient, 5), fitSig(s.CoefficientSE, 2), s.Exponent, fitSig(s.ExponentSE, 2))
 		}
 		p("  standard error of estimate %.2f %% (%.4f in ln Q)\n", f.StandardErrorPercent, f.StandardErrorLog)
 		if !math.IsNaN(f.MoreSegmentsP) {
@@ -254,21 +254,21 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 	}
 	p("\n")
 	for i, g := range r.Gaugings {
-		p("  %-19s %9.3f %10s %-9s", g.Time.Format(TimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality)
+		p("  %-19s %9.3f %10s %-9s", g.Time.Format(TimeLayout), g.Stage, fitSig(g.Discharge, 5), g.Quality)
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
-			p(" %10s %7s%s %8s", sig(res.Fitted, 5), fixed(res.DeparturePercent, 1), star(res.OutsideBand), fixed(res.Shift, 3))
+			p(" %10s %7s%s %8s", fitSig(res.Fitted, 5), fitFixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fitFixed(res.Shift, 3))
 		}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
 			f, n := calPoint(r, i)
-			p(" %10s %7s%s %8s %8s %7s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), star(c.OutsideBand), fixed(c.Shift, 3), fixed(f, 3), fixed(n, 4))
+			p(" %10s %7s%s %8s %8s %7s", fitSig(c.Fitted, 5), fitFixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fitFixed(c.Shift, 3), fitFixed(f, 3), fitFixed(n, 4))
 		}
 		p("\n")
 	}
 	if c := r.Comparison; c != nil {
 		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
-			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
+			fitFixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
 	}
 	if c := r.Calibration; c != nil {
 		which := "every subsection's n"
@@ -276,7 +276,7 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 			which = "the channel's n"
 		}
 		p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
-			which, c.Factor, fixed(c.StandardErrorPercent, 2))
+			which, c.Factor, fitFixed(c.StandardErrorPercent, 2))
 	}
 	if t := r.Table; t != nil {
 		p("\nLookup table (gauge height %s, discharge %s; x = extrapolated: below the lowest gauging on the fit, above the highest on the scaled hydraulic rating):\n", L, Q)
@@ -289,7 +289,7 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 			if row.Extrapolated() {
 				mark = "x"
 			}
-			p("  %9.3f %11s %11s %11s %s %s\n", row.Stage, sig(row.Discharge, 5), sig(row.Lower, 5), sig(row.Upper, 5), mark, row.Basis)
+			p("  %9.3f %11s %11s %11s %s %s\n", row.Stage, fitSig(row.Discharge, 5), fitSig(row.Lower, 5), fitSig(row.Upper, 5), mark, row.Basis)
 		}
 	}
 	if len(r.Warnings) > 0 {
@@ -302,21 +302,21 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 	return bw.Flush()
 }
 
-func sig(v float64, n int) string {
+func fitSig(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
 	return fmt.Sprintf("%.*g", n, v)
 }
 
-func fixed(v float64, n int) string {
+func fitFixed(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
 	return fmt.Sprintf("%.*f", n, v)
 }
 
-func star(b bool) string {
+func fitStar(b bool) string {
 	if b {
 		return "*"
 	}

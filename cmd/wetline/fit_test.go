@@ -52,7 +52,7 @@ func fitGolden(t *testing.T, name, got string) {
 
 const (
 	fitDemoGaugings = "demodata/tallow-gaugings.csv"
-	fitDemoSurvey = "demodata/tallow-xs1.csv"
+	fitDemoSurvey   = "demodata/tallow-xs1.csv"
 )
 
 func TestFitGolden(t *testing.T) {
