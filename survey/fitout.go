@@ -19,8 +19,8 @@ var FitTableColumns = []string{"stage", "discharge", "extrapolated", "basis", "l
 var ComparisonColumns = []string{"time", "stage", "discharge", "quality", "rated", "departure_percent", "shift",
 	"outside_band", "factor_on_n", "n", "source"}
 
-// TimeLayout is how gauging times are written.
-const TimeLayout = "2006-01-02T15:04:05"
+// GaugingTimeLayout is how gauging times are written.
+const GaugingTimeLayout = "2006-01-02T15:04:05"
 
 // WriteGaugingReportCSV writes the lookup table of a fit (FitTableColumns),
 // or, in comparison-only mode, the gaugings against the hydraulic rating
@@ -39,7 +39,7 @@ func WriteGaugingReportCSV(w io.Writer, r *rating.GaugingReport) error {
 	}
 	writeRecord(bw, ComparisonColumns)
 	for i, g := range r.Gaugings {
-		rec := []string{g.Time.Format(TimeLayout), FormatFloat(g.Stage), FormatFloat(g.Discharge), g.Quality.String()}
+		rec := []string{g.Time.Format(GaugingTimeLayout), FormatFloat(g.Stage), FormatFloat(g.Discharge), g.Quality.String()}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
 			rec = append(rec, FormatFloat(c.Fitted), FormatFloat(c.DeparturePercent), FormatFloat(c.Shift), fmt.Sprint(c.OutsideBand))
@@ -169,7 +169,7 @@ func WriteGaugingReportJSON(w io.Writer, r *rating.GaugingReport) error {
 	}
 	for i, g := range r.Gaugings {
 		nan := Float(math.NaN())
-		jg := jsonGauging{Time: g.Time.Format(TimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
+		jg := jsonGauging{Time: g.Time.Format(GaugingTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
 			Quality: g.Quality.String(), Note: g.Note, Source: g.Source,
 			Fitted: nan, DeparturePercent: nan, Shift: nan, Hydraulic: nan, HydDeparture: nan, HydShift: nan}
 		if r.Fit != nil {
@@ -254,7 +254,7 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 	}
 	p("\n")
 	for i, g := range r.Gaugings {
-		p("  %-19s %9.3f %10s %-9s", g.Time.Format(TimeLayout), g.Stage, fitSig(g.Discharge, 5), g.Quality)
+		p("  %-19s %9.3f %10s %-9s", g.Time.Format(GaugingTimeLayout), g.Stage, fitSig(g.Discharge, 5), g.Quality)
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
 			p(" %10s %7s%s %8s", fitSig(res.Fitted, 5), fitFixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fitFixed(res.Shift, 3))

@@ -15,11 +15,11 @@ import (
 // Column names of a gaugings table (matched case-insensitively; a unit in
 // brackets after the name is allowed).
 const (
-	ColTime        = "time"
-	ColStage       = "stage"
-	ColGaugeHeight = "gauge_height"
-	ColDischarge   = "discharge"
-	ColQuality     = "quality"
+	ColGaugingTime      = "time"
+	ColGaugingStage     = "stage"
+	ColGaugeHeight      = "gauge_height"
+	ColGaugingDischarge = "discharge"
+	ColGaugingQuality   = "quality"
 )
 
 // GaugingsSheet is the sheet a workbook's gaugings are read from when no
@@ -64,10 +64,10 @@ const (
 	MaxDateSerial = 2958465
 )
 
-// ParseTime reads a gauging time: ISO 8601 text, or, for a cell of a
+// ParseGaugingTime reads a gauging time: ISO 8601 text, or, for a cell of a
 // workbook (inWorkbook), the workbook's date serial number in its date
 // system (date1904).
-func ParseTime(s string, inWorkbook, date1904 bool) (time.Time, error) {
+func ParseGaugingTime(s string, inWorkbook, date1904 bool) (time.Time, error) {
 	s = strings.TrimSpace(s)
 	for _, l := range timeLayouts {
 		if t, err := time.Parse(l, s); err == nil {
@@ -135,19 +135,19 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // unknown quality word, and a time given twice.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	gs := Gaugings{File: t.File, Sheet: t.Sheet}
-	ct, err := t.Require(ColTime)
+	ct, err := t.Require(ColGaugingTime)
 	if err != nil {
 		return gs, err
 	}
-	cs, err := t.Require(ColStage, ColGaugeHeight)
+	cs, err := t.Require(ColGaugingStage, ColGaugeHeight)
 	if err != nil {
 		return gs, err
 	}
-	cq, err := t.Require(ColDischarge)
+	cq, err := t.Require(ColGaugingDischarge)
 	if err != nil {
 		return gs, err
 	}
-	cqual := t.Column(ColQuality)
+	cqual := t.Column(ColGaugingQuality)
 	cnote := t.Column(ColNote)
 	var errs errorList
 	add := func(rec Record, col int, err error) {
@@ -175,7 +175,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		if s := t.Cell(rec, ct); s == "" {
 			add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
 			okAll = false
-		} else if tm, err := ParseTime(s, t.Sheet != "", t.Date1904); err != nil {
+		} else if tm, err := ParseGaugingTime(s, t.Sheet != "", t.Date1904); err != nil {
 			add(rec, ct, err)
 			okAll = false
 		} else {
