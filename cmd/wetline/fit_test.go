@@ -6,10 +6,13 @@ import (
 	"encoding/json"
 	"errors"
 	"flag"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/xuri/excelize/v2"
 )
 
 func init() {
@@ -223,5 +226,60 @@ func TestDemoWritesFit(t *testing.T) {
 		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
 			t.Error(err)
 		}
+	}
+}
+
+// Gaugings from a workbook's gaugings sheet, with times as the
+// spreadsheet's own date cells (serial 45000.5 is 2023-03-15 12:00 in the
+// 1900 date system, excelize.ExcelDateToTime).
+func TestFitWorkbookGaugings(t *testing.T) {
+	f := excelize.NewFile()
+	defer f.Close()
+	if _, err := f.NewSheet("gaugings"); err != nil {
+		t.Fatal(err)
+	}
+	rows := [][]any{{"time", "gauge_height", "discharge", "quality"}}
+	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
+		rows = append(rows, []any{45000.5 + 30*float64(i), h, 8 * math.Pow(h-0.3, 2), "good"})
+	}
+	style, err := f.NewStyle(&excelize.Style{NumFmt: 22}) // m/d/yy h:mm
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		if err := f.SetSheetRow("gaugings", cell, &r); err != nil {
+			t.Fatal(err)
+		}
+		if i > 0 {
+			if err := f.SetCellStyle("gaugings", cell, cell, style); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	path := filepath.Join(t.TempDir(), "field.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	out, _, err := fitRun(t, "fit", path, "--format", "json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Gaugings []struct{ Time string }
+		Segments []struct {
+			ZeroFlowStage float64 `json:"zero_flow_stage"`
+			Exponent      float64
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Gaugings[0].Time != "2023-03-15T12:00:00" {
+		t.Errorf("first time %q", doc.Gaugings[0].Time)
+	}
+	// Noise-free Q = 8·(h − 0.3)² (closed form).
+	if s := doc.Segments[0]; math.Abs(s.ZeroFlowStage-0.3) > 1e-6 || math.Abs(s.Exponent-2) > 1e-6 {
+		t.Errorf("segment %+v, want e 0.3 and b 2", s)
 	}
 }
