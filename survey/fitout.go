@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"sort"
 	"strings"
 
 	"wetline/rating"
@@ -277,6 +278,13 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 		}
 		p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
 			which, c.Factor, fitFixed(c.StandardErrorPercent, 2))
+		pts := append([]rating.NPoint(nil), c.Points...)
+		sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
+		p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
+		p("  %9s %9s %8s\n", "stage", "factor", "n")
+		for _, pt := range pts {
+			p("  %9.3f %9s %8s\n", pt.Stage, fitFixed(pt.Factor, 4), fitFixed(pt.N, 4))
+		}
 	}
 	if t := r.Table; t != nil {
 		p("\nLookup table (gauge height %s, discharge %s; x = extrapolated: below the lowest gauging on the fit, above the highest on the scaled hydraulic rating):\n", L, Q)
