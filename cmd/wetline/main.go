@@ -39,6 +39,7 @@ var commands = map[string]command{
 	"cowan":     {"Manning's n from a description of the reach by Cowan's method", runCowan},
 	"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
 	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
+	"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
 }
 
 // usageError marks an error in the command line (exit status 2).

@@ -18,9 +18,10 @@ type rateFlags struct {
 	from, to, step float64
 	stages         []float64
 	format, output string
+	calib          calibrateFlags
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -33,6 +34,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
 	fs.StringVar(&f.format, "format", "", "output format: csv, json or text (aligned columns to read on screen); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	f.calib.register(fs)
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
@@ -48,6 +50,9 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	}
 	l, err := f.load(fs.Arg(0))
 	if err != nil {
+		return err
+	}
+	if err := f.calib.apply(l, f.slope, fs.Changed); err != nil {
 		return err
 	}
 	if f.output != "" {

@@ -1,0 +1,35 @@
+package rating_test
+
+import (
+	"fmt"
+	"math"
+
+	"wetline/rating"
+)
+
+// A rating fitted to gaugings that follow Q = 4·(h − 0.2)^1.8 exactly.
+func ExampleFitPowerLaw() {
+	var gs []rating.Gauging
+	for _, h := range []float64{0.5, 0.8, 1.1, 1.5, 2.0, 2.6} {
+		gs = append(gs, rating.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
+	}
+	f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s := f.Segments[0]
+	fmt.Printf("Q = %.4f·(h − %.4f)^%.4f\n", s.Coefficient, s.ZeroFlow, s.Exponent)
+	fmt.Printf("Q(3.0) = %.3f\n", f.Discharge(3.0))
+	// Output:
+	// Q = 4.0000·(h − 0.2000)^1.8000
+	// Q(3.0) = 25.524
+}
+
+// A gauging's departure from a good measurement's 5 % band.
+func ExampleQuality_Outside() {
+	q, _ := rating.ParseQuality("good")
+	fmt.Println(q.BandPercent(), q.Outside(4.0), q.Outside(-6.5))
+	// Output:
+	// 5 false true
+}

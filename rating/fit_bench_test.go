@@ -1,0 +1,25 @@
+package rating_test
+
+import (
+	"testing"
+
+	"wetline/rating"
+	"wetline/survey"
+)
+
+// Fitting the 142 Patuxent gaugings (testdata/reference) with e fitted.
+func BenchmarkFitPatuxent(b *testing.B) {
+	gs, err := survey.ReadGaugings("testdata/reference/gaugings-01594440.csv", "")
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, k := range []int{1, 2, 3} {
+		b.Run(string(rune('0'+k))+"-segments", func(b *testing.B) {
+			for b.Loop() {
+				if _, err := rating.FitPowerLaw(gs.Gaugings, rating.FitOptions{Segments: k, Units: rating.US}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}

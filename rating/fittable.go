@@ -1,0 +1,208 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+)
+
+// Basis says what a row of a fitted lookup table rests on.
+type Basis int
+
+// Bases of a lookup-table row. Only WithinGaugings is not extrapolated.
+const (
+	// WithinGaugings: the fitted curve, between the lowest and highest gauging.
+	WithinGaugings Basis = iota
+	// BelowGaugings: the fitted curve below the lowest gauging, down to e.
+	BelowGaugings
+	// HydraulicAbove: the hydraulic rating above the highest gauging,
+	// scaled to meet the fitted curve there.
+	HydraulicAbove
+)
+
+func (b Basis) String() string {
+	switch b {
+	case BelowGaugings:
+		return "fit below gaugings"
+	case HydraulicAbove:
+		return "scaled hydraulic"
+	}
+	return "fit"
+}
+
+// FitRow is one row of a fitted lookup table.
+type FitRow struct {
+	// Stage is the gauge height (length unit); Discharge the table's value.
+	Stage, Discharge float64
+	// Lower and Upper bound the FitBandLevel band of the mean fitted
+	// relation (NaN on hydraulic rows and where not available).
+	Lower, Upper float64
+	// Hydraulic is the unscaled hydraulic discharge (NaN without a section).
+	Hydraulic float64
+	// Basis says what the row rests on.
+	Basis Basis
+}
+
+// Extrapolated reports a row outside the range of the gaugings.
+func (r FitRow) Extrapolated() bool { return r.Basis != WithinGaugings }
+
+// TableOptions configure a lookup table. The zero value lays out about
+// MaxDefaultRows round stages from e to the highest gauging, or to the
+// section's lower end when a hydraulic rating is given.
+type TableOptions struct {
+	// Step is the stage step (length unit, > 0; default a round step).
+	Step float64
+	// To is the highest stage (gauge height; 0 = default). It may not lie
+	// above the section's lower end, nor above the highest gauging without
+	// a section.
+	To float64
+	// Hydraulic, when set, carries the table above the highest gauging.
+	Hydraulic *HydraulicCurve
+}
+
+// FitTable is a compact stage–discharge lookup table from a fit.
+type FitTable struct {
+	// Rows ascend in stage.
+	Rows []FitRow
+	// ScaleFactor is the factor on the hydraulic rating above the highest
+	// gauging: the fitted discharge divided by the hydraulic discharge at
+	// ScaleStage, the highest gauging's gauge height (NaN without a
+	// section). ScaleNote says so in words, or says that the table stops
+	// at the highest gauging.
+	ScaleFactor, ScaleStage float64
+	ScaleNote               string
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+}
+
+// ErrBeyondSection is returned for a table asked to go past the section's
+// ends, or above the gaugings without a section to extrapolate on.
+var ErrBeyondSection = errors.New("refusing to extrapolate")
+
+// stageMerge is the fraction of a step within which a grid stage is
+// dropped next to a stage the table must hold (a gauging, the top).
+const stageMerge = 0.05
+
+// LookupTable lays out the fitted rating as a table. Between the lowest
+// and highest gauging it is the fit; below, the fit down to e (extrapolated
+// rows); above, with a hydraulic rating, that rating times
+//
+//	F = Q_fit(h_top) / Q_hydraulic(h_top)
+//
+// at the highest gauging h_top, so that the two meet there and the shape
+// above follows the section's hydraulics (the approach of extending a
+// rating by a hydraulic computation described by Kennedy, 1984, USGS
+// TWRI 3-A10, among the methods of extrapolating ratings, from memory); it
+// stops at the section's lower end and never goes past it.
+// Without a section the table ends at the highest gauging.
+func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
+	t := FitTable{ScaleFactor: math.NaN(), ScaleStage: f.HighStage}
+	lo, top := f.ZeroFlow, f.HighStage
+	u := f.Units
+	c := opt.Hydraulic
+	if c != nil {
+		ct := c.Top()
+		switch {
+		case ct < f.HighStage:
+			t.Warnings = append(t.Warnings, fmt.Sprintf(
+				"the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge): no extrapolation above it",
+				f.HighStage, u.Length(), ct, u.Length()))
+		default:
+			top = ct
+			qh, err := c.Discharge(f.HighStage)
+			if err != nil {
+				return t, err
+			}
+			if !(qh > 0) {
+				return t, fmt.Errorf("%w: the section is dry at the highest gauging (%g %s): check --datum", ErrBeyondSection, f.HighStage, u.Length())
+			}
+			t.ScaleFactor = f.Discharge(f.HighStage) / qh
+			t.ScaleNote = fmt.Sprintf(
+				"above the highest gauging (%g %s) the table follows the hydraulic rating times %.4f, the fitted discharge %.4g over the hydraulic discharge %.4g %s at that gauge height",
+				f.HighStage, u.Length(), t.ScaleFactor, f.Discharge(f.HighStage), qh, u.Discharge())
+		}
+	}
+	if c == nil {
+		t.ScaleNote = fmt.Sprintf("no section given: the table ends at the highest gauging (%g %s), with no extrapolation above it", f.HighStage, u.Length())
+	}
+	if opt.To != 0 {
+		if opt.To > top {
+			why := "the highest gauging (give a section to extrapolate on its hydraulics)"
+			if c != nil {
+				why = "the section's lower end"
+			}
+			return t, fmt.Errorf("%w: stage %g %s is above %s at %g %s", ErrBeyondSection, opt.To, u.Length(), why, top, u.Length())
+		}
+		if !(opt.To > lo) {
+			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", ErrStages, opt.To, lo)
+		}
+		top = opt.To
+	}
+	step := opt.Step
+	if !(step > 0) || math.IsInf(step, 0) {
+		step = NiceStep((top - lo) / MaxDefaultRows)
+	}
+	if (top-lo)/step > MaxStages {
+		return t, fmt.Errorf("%w: step %g is too small for %g to %g", ErrStages, step, lo, top)
+	}
+	must := []float64{lo, top}
+	if f.LowStage <= top {
+		must = append(must, f.LowStage)
+	}
+	if f.HighStage <= top {
+		must = append(must, f.HighStage)
+	}
+	stages := append([]float64(nil), must...)
+	first := math.Ceil(lo / step)
+	for i := 0.0; ; i++ {
+		h := (first + i) * step
+		if h >= top {
+			break
+		}
+		near := false
+		for _, m := range must {
+			if math.Abs(h-m) < stageMerge*step {
+				near = true
+			}
+		}
+		if !near && h > lo {
+			stages = append(stages, h)
+		}
+	}
+	stages = SortedStages(stages)
+	sort.Float64s(stages)
+	for _, h := range stages {
+		r := FitRow{Stage: h, Hydraulic: math.NaN(), Lower: math.NaN(), Upper: math.NaN()}
+		if c != nil {
+			q, err := c.Discharge(h)
+			if err != nil {
+				return t, err
+			}
+			r.Hydraulic = q
+		}
+		switch {
+		case h > f.HighStage && c != nil:
+			r.Basis = HydraulicAbove
+			r.Discharge = t.ScaleFactor * r.Hydraulic
+		default:
+			if h < f.LowStage {
+				r.Basis = BelowGaugings
+			}
+			r.Discharge = f.Discharge(h)
+			r.Lower, r.Upper = f.Band(h)
+		}
+		t.Rows = append(t.Rows, r)
+	}
+	if c != nil && t.ScaleFactor > 0 {
+		prev := 0.0
+		for _, r := range t.Rows {
+			if r.Basis == HydraulicAbove && r.Discharge < prev {
+				t.Warnings = append(t.Warnings, fmt.Sprintf("the scaled hydraulic rating falls at %g %s: check the section above the gaugings", r.Stage, u.Length()))
+				break
+			}
+			prev = r.Discharge
+		}
+	}
+	return t, nil
+}

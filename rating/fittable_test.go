@@ -1,0 +1,67 @@
+package rating_test
+
+import (
+	"errors"
+	"math"
+	"testing"
+
+	"wetline/rating"
+)
+
+// The lookup table: the fit between the gaugings, the fit down to e below
+// them, the hydraulic rating scaled to meet the fit at the highest gauging
+// above them, and nothing past the section's lower end.
+func TestLookupTable(t *testing.T) {
+	truth := compound(t, 0.030, 0.060)
+	gs := sample(t, truth, linspace(1.0, 2.4, 12)) // in the channel, below the banks at 2.5
+	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	tab, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, Step: 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Conveyance ∝ 1/n (Chow, 1959, eq. 6-9): the survey's n is 1.2 times
+	// the truth, so the hydraulic rating is 1/1.2 of the truth, and the fit
+	// (a power law through the truth) meets it with a factor near 1.2.
+	if math.Abs(tab.ScaleFactor-1.2) > 0.02 || tab.ScaleStage != 2.4 || tab.ScaleNote == "" {
+		t.Errorf("scale factor %g at %g (%q)", tab.ScaleFactor, tab.ScaleStage, tab.ScaleNote)
+	}
+	first, last := tab.Rows[0], tab.Rows[len(tab.Rows)-1]
+	if first.Stage != 0.5 || first.Discharge != 0 || first.Basis != rating.BelowGaugings || !first.Extrapolated() {
+		t.Errorf("first row %+v", first)
+	}
+	if want := c.Top(); last.Stage != want || last.Basis != rating.HydraulicAbove {
+		t.Errorf("last row %+v, want stage %g (the section's lower end)", last, want)
+	}
+	const tol = 1e-12 // round-off
+	for _, r := range tab.Rows {
+		switch {
+		case r.Stage < 1.0 && r.Basis != rating.BelowGaugings,
+			r.Stage >= 1.0 && r.Stage <= 2.4 && (r.Basis != rating.WithinGaugings || r.Extrapolated()),
+			r.Stage > 2.4 && r.Basis != rating.HydraulicAbove:
+			t.Errorf("stage %g: basis %v", r.Stage, r.Basis)
+		}
+		if r.Basis == rating.HydraulicAbove && relErr(r.Discharge, tab.ScaleFactor*r.Hydraulic) > tol {
+			t.Errorf("stage %g: %g is not the factor times %g", r.Stage, r.Discharge, r.Hydraulic)
+		}
+		if r.Stage == 2.4 && relErr(r.Discharge, tab.ScaleFactor*r.Hydraulic) > tol {
+			t.Errorf("the two curves do not meet at the highest gauging: %g and %g", r.Discharge, tab.ScaleFactor*r.Hydraulic)
+		}
+	}
+	if _, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, To: c.Top() + 0.1}); !errors.Is(err, rating.ErrBeyondSection) {
+		t.Errorf("past the section's end: err = %v", err)
+	}
+	if _, err := rating.LookupTable(f, rating.TableOptions{To: 3}); !errors.Is(err, rating.ErrBeyondSection) {
+		t.Errorf("above the gaugings without a section: err = %v", err)
+	}
+	plain, err := rating.LookupTable(f, rating.TableOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if l := plain.Rows[len(plain.Rows)-1]; l.Stage != 2.4 || l.Extrapolated() || !math.IsNaN(plain.ScaleFactor) {
+		t.Errorf("without a section the table ends at %+v", l)
+	}
+}

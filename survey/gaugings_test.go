@@ -1,0 +1,139 @@
+package survey
+
+import (
+	"errors"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+)
+
+func TestParseGaugings(t *testing.T) {
+	const in = "# comment\ntime,gauge_height (m),discharge,quality,note\n" +
+		"2024-03-05T14:30,1.25,3.4,good,wading\n" +
+		"2024-04-01,1.80,7.9,E,\n" +
+		"2024-05-02 08:15:00,2.1,12.5,,\n"
+	gs, err := ParseGaugings(strings.NewReader(in), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(gs.Gaugings) != 3 {
+		t.Fatalf("got %d gaugings, want 3", len(gs.Gaugings))
+	}
+	g := gs.Gaugings[0]
+	want := time.Date(2024, 3, 5, 14, 30, 0, 0, time.UTC)
+	if !g.Time.Equal(want) || g.Stage != 1.25 || g.Discharge != 3.4 || g.Quality != rating.Good || g.Note != "wading" || g.Source != "g.csv:3" {
+		t.Errorf("first gauging = %+v", g)
+	}
+	if gs.Gaugings[1].Quality != rating.Excellent || gs.Gaugings[2].Quality != rating.Unrated {
+		t.Errorf("qualities = %v, %v", gs.Gaugings[1].Quality, gs.Gaugings[2].Quality)
+	}
+}
+
+// Bad gaugings: each error names the row and column, and every bad row of
+// the file is reported together.
+func TestParseGaugingsErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, in string
+		want     []string
+		is       error
+	}{
+		{"negative discharge", "time,stage,discharge\n2024-01-01,1,-3\n", []string{"g.csv:2:3", "must not be negative"}, ErrNegativeDischarge},
+		{"bad date", "time,stage,discharge\n2024-13-45,1,3\n", []string{"g.csv:2:1", `time "2024-13-45"`}, ErrBadTime},
+		{"serial in csv", "time,stage,discharge\n45000,1,3\n", []string{"g.csv:2:1"}, ErrSerialInCSV},
+		{"duplicate time", "time,stage,discharge\n2024-01-01T10:00,1,3\n2024-01-01T10:00,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
+		{"duplicate instant", "time,stage,discharge\n2024-01-01T10:00+01:00,1,3\n2024-01-01T09:00:00Z,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
+		{"blank stage", "time,stage,discharge\n2024-01-01,,3\n", []string{"g.csv:2:2", "stage is blank"}, ErrNotNumber},
+		{"quality word", "time,stage,discharge,quality\n2024-01-01,1,3,superb\n", []string{"g.csv:2:4"}, rating.ErrQuality},
+		{"no discharge column", "time,stage,flow\n2024-01-01,1,3\n", []string{"discharge"}, ErrMissingColumn},
+		{"no rows", "time,stage,discharge\n", []string{"no data rows"}, ErrEmpty},
+		{"two rows bad", "time,stage,discharge\nx,1,3\n2024-01-02,1,-1\n", []string{"g.csv:2:1", "g.csv:3:3"}, ErrBadTime},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseGaugings(strings.NewReader(tc.in), "g.csv")
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q does not contain %q", err, w)
+				}
+			}
+			if !errors.Is(err, tc.is) {
+				t.Errorf("error %q is not %v", err, tc.is)
+			}
+		})
+	}
+}
+
+// A workbook date serial is read in the workbook's date system: serial
+// 45000 is 2023-03-15 in the 1900 system (excelize.ExcelDateToTime; the
+// 1904 system counts 1462 days less, ECMA-376 Part 1, 18.17.4.1, from memory).
+func TestGaugingsWorkbookSerial(t *testing.T) {
+	tab := &Table{File: "f.xlsx", Sheet: "gaugings", Header: []string{"time", "stage", "discharge"}, HeaderRow: 1,
+		Records: []Record{{Row: 2, Cells: []string{"45000.5", "1.2", "3"}}}}
+	gs, err := GaugingsFromTable(tab)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := time.Date(2023, 3, 15, 12, 0, 0, 0, time.UTC); !gs.Gaugings[0].Time.Equal(want) {
+		t.Errorf("time = %v, want %v", gs.Gaugings[0].Time, want)
+	}
+	tab.Date1904 = true
+	gs, err = GaugingsFromTable(tab)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := time.Date(2027, 3, 16, 12, 0, 0, 0, time.UTC); !gs.Gaugings[0].Time.Equal(want) {
+		t.Errorf("1904 time = %v, want %v", gs.Gaugings[0].Time, want)
+	}
+}
+
+// ReadGaugings finds the sheet named gaugings in a workbook.
+func TestReadGaugingsWorkbook(t *testing.T) {
+	f := excelize.NewFile()
+	defer f.Close()
+	if _, err := f.NewSheet("Gaugings"); err != nil {
+		t.Fatal(err)
+	}
+	rows := [][]any{{"time", "stage", "discharge", "quality"}, {45000.25, 1.5, 4.25, "fair"}, {45030, 1.7, 5.5, "good"}}
+	for i, r := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		if err := f.SetSheetRow("Gaugings", cell, &r); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := t.TempDir() + "/field.xlsx"
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	gs, err := ReadGaugings(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if gs.Sheet != "Gaugings" || len(gs.Gaugings) != 2 || gs.Gaugings[0].Discharge != 4.25 || gs.Gaugings[0].Quality != rating.Fair {
+		t.Errorf("got %+v", gs)
+	}
+	if !strings.Contains(gs.Gaugings[1].Source, "row 3") {
+		t.Errorf("source %q does not name row 3", gs.Gaugings[1].Source)
+	}
+}
+
+func FuzzParseGaugings(f *testing.F) {
+	f.Add("time,stage,discharge\n2024-01-01,1,3\n")
+	f.Add("time,gauge_height,discharge,quality,note\n2024-01-01T10:00:00Z,1.5,3,poor,x\n2024-01-01T10:00:00+01:00,1,,g,\n")
+	f.Fuzz(func(t *testing.T, in string) {
+		gs, err := ParseGaugings(strings.NewReader(in), "f.csv")
+		if err != nil {
+			return
+		}
+		for _, g := range gs.Gaugings {
+			if g.Discharge < 0 || g.Stage != g.Stage || g.Source == "" {
+				t.Fatalf("accepted bad gauging %+v", g)
+			}
+		}
+	})
+}
