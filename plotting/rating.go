@@ -229,9 +229,9 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	}
 	caution := orDefault(r.Caution, DefaultCaution)
 	fig := figure{
-		title:    titleOf(r.Site, r.Section, "stage–discharge rating"),
-		subtitle: r.Subtitle,
-		foot:     []string{caution},
+		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
+		subtitle:  r.Subtitle,
+		foot:      []string{caution},
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {
@@ -432,9 +432,9 @@ func gaugingStyle(q string) (string, draw.GlyphStyle) {
 	case "excellent", "e":
 		return "excellent", draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.CircleGlyph{}}
 	case "good", "g":
-		return "good", draw.GlyphStyle{Color: colWater, Radius: r * 0.9, Shape: draw.SquareGlyph{}}
+		return "good", draw.GlyphStyle{Color: colWater, Radius: r * 0.9, Shape: draw.BoxGlyph{}}
 	case "fair", "f":
-		return "fair", draw.GlyphStyle{Color: colBank, Radius: r * 1.1, Shape: draw.TriangleGlyph{}}
+		return "fair", draw.GlyphStyle{Color: colBank, Radius: r * 1.1, Shape: draw.PyramidGlyph{}}
 	case "poor", "p":
 		return "poor", draw.GlyphStyle{Color: colFitted, Radius: r, Shape: draw.CrossGlyph{}}
 	}
@@ -484,7 +484,9 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 		if pct, ok := QualityBand(q); ok {
 			label += fmt.Sprintf(" (±%g %%)", pct)
 		}
-		p.Legend.Add(label, s)
+		if !logv {
+			p.Legend.Add(label, s)
+		}
 	}
 	return n
 }

@@ -176,6 +176,7 @@ func newPanel(title, xlabel, ylabel string) *plot.Plot {
 	p.Legend.TextStyle.Font = sans(sizeNote)
 	p.Legend.TextStyle.Color = colInk
 	p.Legend.ThumbnailWidth = vg.Points(26)
+	p.Legend.Padding = vg.Points(2.5)
 	return p
 }
 
