@@ -118,8 +118,8 @@ type RatingPlot struct {
 // The log–log panel leaves out every point at or below the gauge height
 // of zero flow or without positive discharge (a log axis cannot show
 // them); Result.Omitted counts them, and Result.Warnings reports them,
-// except the curves' own zero-flow points exactly at e, which every
-// hydraulic rating has.
+// except curve points without flow at or below e, which every hydraulic
+// rating has (the dry channel).
 func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	var res Result
 	hyd, fit := cleanCurve(r.Hydraulic), cleanCurve(r.Fitted)
@@ -179,13 +179,14 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 			"Discharge, "+un.discharge, "h − e, "+un.length)
 		omitted, warned := 0, 0
 		for _, c := range [][]RatingPoint{hyd, fit} {
-			for i, p := range c {
+			for _, p := range c {
 				if p.Stage-e > 0 && p.Discharge > 0 {
 					continue
 				}
 				omitted++
-				atOrigin := p.Stage == e && p.Discharge == 0 || i == 0 && p.Discharge == 0 && p.Stage <= e
-				if !atOrigin {
+				// A dry point at or below e is what a rating should
+				// have; flow at or below e, or negative flow, is not.
+				if !(p.Discharge == 0 && p.Stage <= e) {
 					warned++
 				}
 			}

@@ -48,7 +48,7 @@ func demoTable(t testing.TB, sec subdivide.Section) rating.Table {
 	return tab
 }
 
-func draw(t *testing.T, f func(*bytes.Buffer) error) []byte {
+func drawn(t *testing.T, f func(*bytes.Buffer) error) []byte {
 	t.Helper()
 	var buf bytes.Buffer
 	if err := f(&buf); err != nil {

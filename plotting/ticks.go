@@ -9,15 +9,17 @@ import (
 
 // LogTicks125 marks a logarithmic axis at 1, 2 and 5 times each power of
 // ten, with unlabelled minor marks at the other integers. Over more than
-// MaxLabelledDecades decades only the powers of ten are labelled, so the
-// labels do not crowd. Unlike plot.LogTicks it labels a range lying
-// inside one decade. Min must be > 0; a range with min ≤ 0 yields no
-// ticks.
+// Decades125 decades the 2 marks lose their labels, and over more than
+// Decades15 the 5 marks too, so the labels do not crowd. Unlike
+// plot.LogTicks it labels a range lying inside one decade. Min must be
+// > 0; a range with min ≤ 0 yields no ticks.
 type LogTicks125 struct{}
 
-// MaxLabelledDecades is the widest range, in decades, over which the 2 and
-// 5 marks keep their labels.
-const MaxLabelledDecades = 3.5
+// Label density limits of LogTicks125, in decades of range.
+const (
+	Decades125 = 2.5 // up to this, 1, 2 and 5 are labelled
+	Decades15  = 4.5 // up to this, 1 and 5 are labelled; beyond, only 1
+)
 
 var _ plot.Ticker = LogTicks125{}
 
@@ -26,7 +28,7 @@ func (LogTicks125) Ticks(min, max float64) []plot.Tick {
 	if !(min > 0) || !(max >= min) || !finite(min, max) {
 		return nil
 	}
-	full := math.Log10(max/min) <= MaxLabelledDecades
+	decades := math.Log10(max / min)
 	var out []plot.Tick
 	for e := math.Floor(math.Log10(min)); e <= math.Ceil(math.Log10(max)); e++ {
 		p := math.Pow(10, e)
@@ -36,7 +38,7 @@ func (LogTicks125) Ticks(min, max float64) []plot.Tick {
 				continue
 			}
 			t := plot.Tick{Value: v}
-			if m == 1 || (full && (m == 2 || m == 5)) {
+			if m == 1 || m == 5 && decades <= Decades15 || m == 2 && decades <= Decades125 {
 				t.Label = fmtNum(v)
 			}
 			out = append(out, t)
