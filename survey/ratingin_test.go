@@ -54,7 +54,7 @@ func TestRatingRoundTrip(t *testing.T) {
 func TestRatingFromTableErrors(t *testing.T) {
 	for _, tc := range []struct {
 		name, csv, want string
-		is           error
+		is              error
 	}{
 		{"no discharge column", "stage,area\n1,2\n", `needs a column named "discharge"`, survey.ErrMissingColumn},
 		{"blank stage", "stage,discharge\n1,2\n,3\n", "t.csv:3:1: stage", survey.ErrNotNumber},
