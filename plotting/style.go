@@ -53,6 +53,13 @@ var ErrDraw = errors.New("plotting: drawing failed")
 // ErrNoData is returned when a figure has nothing to draw.
 var ErrNoData = errors.New("plotting: nothing to draw")
 
+// Check reports a size outside the bounds (ErrSize), after filling in
+// the defaults for zero fields.
+func (s Size) Check() error {
+	_, err := s.norm()
+	return err
+}
+
 func (s Size) norm() (Size, error) {
 	if s.Width == 0 {
 		s.Width = DefaultWidth

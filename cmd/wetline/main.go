@@ -35,6 +35,7 @@ type env struct {
 var commands = map[string]command{
 	"rate": {"compute a stage–discharge table from a surveyed section", runRate},
 	"demo": {"write an invented demo site, its rating and reports to a folder", runDemo},
+	"plot": {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
 }
 
 // usageError marks an error in the command line (exit status 2).

@@ -20,7 +20,7 @@ type rateFlags struct {
 	format, output string
 }
 
-const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE]"
+const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE] [--plots DIR]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -33,6 +33,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
 	fs.StringVar(&f.format, "format", "", "output format: csv or json (default: from the -o extension, else csv)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	plotDir := fs.String("plots", "", "also write the rating, section and properties figures (PNG) into this folder")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
@@ -64,6 +65,12 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return fmt.Errorf("%s: %w", fs.Arg(0), err)
 	}
 	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
+	// Figures are drawn in memory first: a drawing error writes nothing.
+	figs, figWarnings, err := rateFigures(*plotDir, fs.Arg(0), l, t)
+	if err != nil {
+		return err
+	}
+	warnings = append(warnings, figWarnings...)
 	write := func(w io.Writer) error {
 		if format == "json" {
 			return survey.WriteRatingJSON(w, t, warnings)
@@ -74,10 +81,16 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
+		if err := writeFigures(e.stderr, *plotDir, figs, l.inputs); err != nil {
+			return err
+		}
 		printWarnings(e.stderr, warnings)
 		return nil
 	}
 	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
+		return err
+	}
+	if err := writeFigures(e.stderr, *plotDir, figs, append([]string{f.output}, l.inputs...)); err != nil {
 		return err
 	}
 	summarizeRating(e.stderr, t, f.output, warnings)

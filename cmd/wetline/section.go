@@ -39,6 +39,9 @@ type loaded struct {
 	geomOpt  subdivide.Options
 	inputs   []string // files read, never to be written over
 	warnings []string
+
+	// section is the section as compiled, after the flag overrides.
+	section subdivide.Section
 }
 
 // load reads the survey at path and applies the flag overrides.
@@ -97,7 +100,7 @@ func (sf *sectionFlags) load(path string) (*loaded, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	l.geom = p
+	l.geom, l.section = p, sec
 	return l, nil
 }
 
