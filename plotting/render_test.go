@@ -1,7 +1,6 @@
 package plotting_test
 
 import (
-	"bytes"
 	"flag"
 	"os"
 	"path/filepath"
@@ -46,13 +45,4 @@ func demoTable(t testing.TB, sec subdivide.Section) rating.Table {
 		t.Fatal(err)
 	}
 	return tab
-}
-
-func drawn(t *testing.T, f func(*bytes.Buffer) error) []byte {
-	t.Helper()
-	var buf bytes.Buffer
-	if err := f(&buf); err != nil {
-		t.Fatal(err)
-	}
-	return buf.Bytes()
 }

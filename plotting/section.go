@@ -198,13 +198,24 @@ func setExaggeration(p *plot.Plot, c draw.Canvas) {
 			target = m * exp
 		}
 	}
-	grow := (p.Y.Max - p.Y.Min) * (natural/target - 1)
-	p.Y.Min -= 0.3 * grow
-	p.Y.Max += 0.7 * grow
-	// Tick labels may change the axis width a little: state the result.
-	got := ve()
+	// Tick labels change the axis width a little as the range grows, so
+	// the widening is repeated until the drawn exaggeration settles.
+	lo, hi := p.Y.Min, p.Y.Max
+	got := natural
+	for range exaggerationPasses {
+		if math.Abs(got-target) <= exaggerationTolerance*target/2 {
+			break
+		}
+		grow := (p.Y.Max - p.Y.Min) * (got/target - 1)
+		p.Y.Min = math.Min(p.Y.Min-0.3*grow, lo)
+		p.Y.Max = math.Max(p.Y.Max+0.7*grow, hi)
+		got = ve()
+	}
 	p.X.Label.Text += fmt.Sprintf("        (vertical exaggeration %s×)", fmtNum(roundTo(got, target)))
 }
+
+// exaggerationPasses bounds the widening passes of setExaggeration.
+const exaggerationPasses = 4
 
 // exaggerationTolerance is the relative difference within which the
 // drawn exaggeration is stated as the round target.
