@@ -182,9 +182,9 @@ func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 	}
 	sub := pp.Subtitle
 	if sub == "" {
-		sub = "Hydraulic properties of the section by stage"
+		sub = "One panel per property, stage on the vertical axis"
 		if bankfull {
-			sub += fmt.Sprintf("; shaded above bankfull (%s %s, the lower bank), where the overbanks start to flow", fmtStage(pp.Bankfull), un.length)
+			sub = fmt.Sprintf("Shaded above bankfull, %s %s (the lower bank top), where the overbanks flow", fmtStage(pp.Bankfull), un.length)
 		}
 	}
 	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: sub}

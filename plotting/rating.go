@@ -543,7 +543,7 @@ func (h hline) Plot(c draw.Canvas, p *plot.Plot) {
 		st := textStyle(sans(sizeNote), h.style.Color)
 		st.XAlign = draw.XRight
 		st.YAlign = draw.YBottom
-		c.FillText(st, vg.Point{X: c.Max.X - vg.Points(3), Y: y + vg.Points(2)}, h.label)
+		haloText(c, st, vg.Point{X: c.Max.X - vg.Points(3), Y: y + vg.Points(2)}, h.label)
 	}
 }
 

@@ -241,7 +241,7 @@ func (s sectionTicks) Plot(c draw.Canvas, p *plot.Plot) {
 	for _, x := range s.secs {
 		cx := tx(x.Distance)
 		c.StrokeLine2(ls, cx, c.Min.Y, cx, c.Max.Y-vg.Points(16))
-		c.FillText(st, vg.Point{X: cx, Y: c.Max.Y - vg.Points(3)}, x.ID)
+		haloText(c, st, vg.Point{X: cx, Y: c.Max.Y - vg.Points(3)}, x.ID)
 	}
 }
 

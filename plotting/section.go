@@ -332,7 +332,7 @@ func (wl waterLine) Plot(c draw.Canvas, p *plot.Plot) {
 		}
 		right = max(right, x1)
 	}
-	if len(wl.pools) == 0 {
+	if len(wl.pools) == 0 || wl.label == "" {
 		return
 	}
 	st := textStyle(sans(sizeNote), wl.style.Color)
@@ -342,7 +342,7 @@ func (wl waterLine) Plot(c draw.Canvas, p *plot.Plot) {
 		st.XAlign = draw.XRight
 		x = right - vg.Points(4)
 	}
-	c.FillText(st, vg.Point{X: x, Y: y + vg.Points(2)}, wl.label)
+	haloText(c, st, vg.Point{X: x, Y: y + vg.Points(2)}, wl.label)
 }
 
 func (wl waterLine) DataRange() (xmin, xmax, ymin, ymax float64) {
@@ -422,7 +422,7 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 			if !d.isDivider(b.x) {
 				c.StrokeLine2(bank, cx, gy, cx, top)
 			}
-			c.FillText(st, vg.Point{X: cx - vg.Points(2), Y: gy + vg.Points(6)}, b.name)
+			haloText(c, st, vg.Point{X: cx - vg.Points(2), Y: gy + vg.Points(6)}, b.name)
 		}
 	}
 	// n labels on up to three staggered rows under the top edge.
@@ -446,7 +446,7 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 			row++
 		}
 		rowEnd[row] = cx + w/2
-		c.FillText(st, vg.Point{X: cx, Y: top - vg.Points(4) - vg.Length(row)*rowH}, label)
+		haloText(c, st, vg.Point{X: cx, Y: top - vg.Points(4) - vg.Length(row)*rowH}, label)
 	}
 	// Point marks, small and slanted above their point.
 	ms := textStyle(sansItalic(sizeNote-1), colMuted)
@@ -465,7 +465,7 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 	ts := textStyle(sansBold(sizeNote), colInk)
 	ts.XAlign = draw.XCenter
 	ts.YAlign = draw.YTop
-	c.FillText(ts, vg.Point{X: x, Y: y - vg.Points(15)}, "thalweg "+fmtStage(d.thalweg.Elevation)+" "+d.unit)
+	haloText(c, ts, vg.Point{X: x, Y: y - vg.Points(15)}, "thalweg "+fmtStage(d.thalweg.Elevation)+" "+d.unit)
 }
 
 func (d sectionDecor) isDivider(x float64) bool {

@@ -355,3 +355,19 @@ func drawRow(c draw.Canvas, panels []*plot.Plot, gap vg.Length) {
 		p.Draw(tiles.At(c, i, 0))
 	}
 }
+
+// haloText draws text on a translucent white patch so it stays readable
+// where it crosses lines or fills.
+func haloText(c draw.Canvas, st text.Style, pt vg.Point, s string) {
+	r := st.Rectangle(s).Add(pt)
+	pad := vg.Points(1.5)
+	var path vg.Path
+	path.Move(vg.Point{X: r.Min.X - pad, Y: r.Min.Y - pad})
+	path.Line(vg.Point{X: r.Max.X + pad, Y: r.Min.Y - pad})
+	path.Line(vg.Point{X: r.Max.X + pad, Y: r.Max.Y + pad})
+	path.Line(vg.Point{X: r.Min.X - pad, Y: r.Max.Y + pad})
+	path.Close()
+	c.SetColor(color.NRGBA{R: 0xff, G: 0xff, B: 0xff, A: 0xc8})
+	c.Fill(path)
+	c.FillText(st, pt, s)
+}
