@@ -18,7 +18,7 @@ type LogTicks125 struct{}
 // Label density limits of LogTicks125, in decades of range.
 const (
 	Decades125 = 2.5 // up to this, 1, 2 and 5 are labelled
-	Decades15  = 4.5 // up to this, 1 and 5 are labelled; beyond, only 1
+	Decades15  = 3.0 // up to this, 1 and 5 are labelled; beyond, only 1
 )
 
 var _ plot.Ticker = LogTicks125{}

@@ -16,10 +16,11 @@ func TestLogTicks125(t *testing.T) {
 		want     string // labelled marks
 		minor    int    // unlabelled marks
 	}{
-		{0.3, 4, "0.5 1 2", 8},                              // inside one decade and a bit: plot.LogTicks labels only 1
-		{2, 8, "2 5", 5},                                    // inside one decade: no power of ten at all
-		{1, 100, "1 2 5 10 20 50 100", 12},                  // two decades
-		{20, 50000, "50 100 500 1000 5000 10000 50000", 24}, // 3.4 decades: 2s unlabelled
+		{0.3, 4, "0.5 1 2", 8},             // inside one decade and a bit: plot.LogTicks labels only 1
+		{2, 8, "2 5", 5},                   // inside one decade: no power of ten at all
+		{1, 100, "1 2 5 10 20 50 100", 12}, // two decades
+		{1, 800, "1 5 10 50 100 500", 20},  // 2.9 decades: 2s unlabelled
+		{20, 50000, "100 1000 10000", 28},  // 3.4 decades: powers of ten only
 		{1e-3, 1e3, "0.001 0.01 0.1 1 10 100 1000", 48},
 		{0, 10, "", 0},  // a log axis cannot hold zero
 		{-1, 10, "", 0}, // nor a negative value
