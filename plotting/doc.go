@@ -14,8 +14,8 @@
 //     figure's Units field (rating.SI: m, m², m³/s; rating.US: ft, ft², ft³/s);
 //     the package never converts units. A missing value is NaN and is left
 //     out of the drawing.
-//   - Stage is drawn on the vertical axis in every figure, as hydrologists
-//     read a rating.
+//   - Stage or elevation is on the vertical axis of every figure, as
+//     hydrologists read a rating.
 //   - Each drawing function writes one PNG to an io.Writer and returns a
 //     Result whose Warnings list what was left out and why. Bad data never
 //     panics: a panic inside the plotting library is recovered and returned

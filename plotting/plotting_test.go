@@ -98,7 +98,8 @@ func demoFigures(t testing.TB) []figureCase {
 	return []figureCase{
 		{"rating", func(w io.Writer, s plotting.Size) (plotting.Result, error) {
 			return plotting.Rating(w, plotting.RatingPlot{Site: site, Section: sv.Section.Name, Size: s,
-				Hydraulic: plotting.CurveFromTable(tab, ""), Fitted: fit, Band: band, Gaugings: inventedGaugings})
+				Hydraulic: plotting.CurveFromTable(tab, ""), Fitted: fit, Band: band, Gaugings: inventedGaugings,
+				Notes: []string{"Fitted curve and gaugings are invented for this test; above 103 m the fit is extrapolated."}})
 		}},
 		{"rating-bare", func(w io.Writer, s plotting.Size) (plotting.Result, error) {
 			return plotting.Rating(w, plotting.RatingPlot{Site: site, Size: s, Hydraulic: plotting.CurveFromTable(tab, "")})
@@ -155,7 +156,8 @@ func inventedReach(sec subdivide.Section) plotting.ReachPlot {
 			VelocityHead: 0.08 + 0.02*float64(i),
 			Marks:        []plotting.HighWaterMark{{Side: plotting.Left, Elevation: ws + 0.04}, {Side: plotting.Right, Elevation: ws - 0.05}}})
 	}
-	return plotting.ReachPlot{Site: "Tallow Creek", Reach: "Mill Lane reach", Sections: secs}
+	return plotting.ReachPlot{Site: "Tallow Creek", Reach: "Mill Lane reach", Sections: secs,
+		Notes: []string{"Invented reach for a test: discharge not computed."}}
 }
 
 func TestFiguresDecode(t *testing.T) {

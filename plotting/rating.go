@@ -107,6 +107,9 @@ type RatingPlot struct {
 	// curve gives none.
 	ZeroFlow    float64
 	HasZeroFlow bool
+	// Notes are extra lines at the foot, above the caution (the source of
+	// an extrapolation, the fit's standard error).
+	Notes []string
 	// Caution is the line at the foot of the figure; "" gives DefaultCaution.
 	Caution string
 	// Size is the pixel size (zero value: the default).
@@ -232,7 +235,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	fig := figure{
 		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
 		subtitle:  r.Subtitle,
-		foot:      []string{caution},
+		foot:      append(append([]string(nil), r.Notes...), caution),
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {

@@ -55,6 +55,11 @@ type ReachSection struct {
 	VelocityHead float64
 }
 
+// DefaultReachCaution is the line at the foot of the reach figures when
+// the caller gives none.
+const DefaultReachCaution = "Caution: a slope-area peak is an indirect estimate with a large uncertainty; " +
+	"review the marks, n values and checks before it is published."
+
 // ReachPlot describes a slope-area reach for the profile and overlay
 // figures.
 type ReachPlot struct {
@@ -66,6 +71,10 @@ type ReachPlot struct {
 	Units rating.Units
 	// Sections in any order; they are drawn by distance.
 	Sections []ReachSection
+	// Notes are extra lines at the foot (the discharge and its band).
+	Notes []string
+	// Caution is the last line at the foot; "" gives DefaultReachCaution.
+	Caution string
 	// Size is the pixel size (zero value: the default).
 	Size Size
 }
@@ -219,7 +228,7 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 			sub += fmt.Sprintf(" (slope %.3g)", (first.WaterSurface-last.WaterSurface)/d)
 		}
 	}
-	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area reach profile"), subtitle: sub}
+	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area reach profile"), subtitle: sub, foot: r.foot()}
 	err = render(w, r.Size, fig, func(c draw.Canvas) error {
 		// Between the water surface near the top and the bed below.
 		p.Legend.YOffs = -0.3 * (c.Max.Y - c.Min.Y)
@@ -311,10 +320,14 @@ func ReachSections(w io.Writer, r ReachPlot) (Result, error) {
 	if sub == "" {
 		sub = "Sections overlaid at their thalweg, elevations as surveyed; each water surface drawn across its wetted width"
 	}
-	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area sections overlaid"), subtitle: sub}
+	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area sections overlaid"), subtitle: sub, foot: r.foot()}
 	err = render(w, r.Size, fig, func(c draw.Canvas) error {
 		p.Draw(c)
 		return nil
 	})
 	return res, err
+}
+
+func (r ReachPlot) foot() []string {
+	return append(append([]string(nil), r.Notes...), orDefault(r.Caution, DefaultReachCaution))
 }
