@@ -107,6 +107,10 @@ type RatingPlot struct {
 	// curve gives none.
 	ZeroFlow    float64
 	HasZeroFlow bool
+	// Bankfull, when HasBankfull is true, is marked across the linear
+	// panel (length unit; see the package function Bankfull).
+	Bankfull    float64
+	HasBankfull bool
 	// Notes are extra lines at the foot, above the caution (the source of
 	// an extrapolation, the fit's standard error).
 	Notes []string
@@ -172,6 +176,10 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	lin.X.Tick.Marker = linearTicks{}
 	if haveE {
 		addZeroFlowLine(lin, e)
+	}
+	if r.HasBankfull && finite(r.Bankfull) {
+		lin.Add(hline{y: r.Bankfull, style: lineStyle(colBank, 1.2, vg.Points(7), vg.Points(3)),
+			label: "bankfull " + fmtStage(r.Bankfull)})
 	}
 
 	panels := []*plot.Plot{lin}
@@ -546,7 +554,7 @@ func (h hline) Plot(c draw.Canvas, p *plot.Plot) {
 		st := textStyle(sans(sizeNote), h.style.Color)
 		st.XAlign = draw.XRight
 		st.YAlign = draw.YBottom
-		haloText(c, st, vg.Point{X: c.Max.X - vg.Points(3), Y: y + vg.Points(2)}, h.label)
+		haloText(c, st, vg.Point{X: c.Max.X - vg.Points(3), Y: y + vg.Points(4.5)}, h.label)
 	}
 }
 

@@ -123,15 +123,18 @@ func drawFigures(in figureInput) ([]figureFile, []string, error) {
 	if !math.IsNaN(in.zeroFlow) {
 		rp.ZeroFlow, rp.HasZeroFlow = in.zeroFlow, true
 	}
+	var bankfull float64
+	var hasBankfull bool
+	if in.loaded != nil {
+		bankfull, hasBankfull = plotting.Bankfull(in.loaded.section)
+		rp.Bankfull, rp.HasBankfull = bankfull, hasBankfull
+	}
 	if err := add("rating", "stage–discharge rating, linear and log–log", func(w io.Writer) (plotting.Result, error) {
 		return plotting.Rating(w, rp)
 	}); err != nil {
 		return nil, nil, err
 	}
-	var bankfull float64
-	var hasBankfull bool
 	if in.loaded != nil && len(in.loaded.section.Points) > 0 {
-		bankfull, hasBankfull = plotting.Bankfull(in.loaded.section)
 		water := []plotting.WaterSurface{}
 		if hasBankfull {
 			water = append(water, plotting.WaterSurface{Stage: bankfull, Label: "bankfull", Shade: true})
