@@ -342,7 +342,7 @@ func (wl waterLine) Plot(c draw.Canvas, p *plot.Plot) {
 		st.XAlign = draw.XRight
 		x = right - vg.Points(4)
 	}
-	haloText(c, st, vg.Point{X: x, Y: y + vg.Points(2)}, wl.label)
+	haloText(c, st, vg.Point{X: x, Y: y + vg.Points(4.5)}, wl.label)
 }
 
 func (wl waterLine) DataRange() (xmin, xmax, ymin, ymax float64) {
@@ -422,7 +422,7 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 			if !d.isDivider(b.x) {
 				c.StrokeLine2(bank, cx, gy, cx, top)
 			}
-			haloText(c, st, vg.Point{X: cx - vg.Points(2), Y: gy + vg.Points(6)}, b.name)
+			haloText(c, st, vg.Point{X: cx - vg.Points(3.5), Y: gy + vg.Points(6)}, b.name)
 		}
 	}
 	// n labels on up to three staggered rows under the top edge.
