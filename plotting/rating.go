@@ -171,7 +171,9 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	lin.Legend.Left = true
 	lin.Legend.XOffs = vg.Points(8)
 	lin.Legend.YOffs = -vg.Points(6)
-	lin.X.Min = 0
+	if lin.X.Min > 0 {
+		lin.X.Min = 0 // discharge from zero, unless data lie below it
+	}
 	lin.Y.Tick.Marker = linearTicks{}
 	lin.X.Tick.Marker = linearTicks{}
 	if haveE {
