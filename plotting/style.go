@@ -327,6 +327,12 @@ func lineStyle(c color.Color, width float64, dashes ...vg.Length) draw.LineStyle
 	return draw.LineStyle{Color: c, Width: vg.Points(width), Dashes: dashes}
 }
 
+// Magnitudes written without an exponent in labels.
+const (
+	plainMin = 1e-4
+	plainMax = 1e7
+)
+
 // fmtNum formats a value for a label with up to 4 significant digits and
 // no exponent for everyday magnitudes.
 func fmtNum(v float64) string {
@@ -334,7 +340,7 @@ func fmtNum(v float64) string {
 		return "–"
 	}
 	a := math.Abs(v)
-	if a != 0 && (a < 1e-4 || a >= 1e7) {
+	if a != 0 && (a < plainMin || a >= plainMax) {
 		return fmt.Sprintf("%.3g", v)
 	}
 	s := fmt.Sprintf("%.4g", v)

@@ -108,7 +108,7 @@ func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 			break
 		}
 		t := plot.Tick{Value: v}
-		if k := v / step; math.Abs(k-math.Round(k)) < 1e-6 {
+		if k := v / step; math.Abs(k-math.Round(k)) < stepMultipleTolerance {
 			t.Value = math.Round(k) * step
 			t.Label = strconv.FormatFloat(t.Value, 'f', decimals(step), 64)
 		}
@@ -116,6 +116,10 @@ func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 	}
 	return out
 }
+
+// stepMultipleTolerance is how close, in steps, a half-step mark must be
+// to a whole multiple of the step to be labelled.
+const stepMultipleTolerance = 1e-6
 
 // niceStep rounds x > 0 to the nearest of 1, 2 or 5 times a power of ten.
 func niceStep(x float64) float64 {
