@@ -80,6 +80,15 @@ func TestPlotRedraw(t *testing.T) {
 		t.Fatal(err)
 	}
 	decodeAll(t, out2, []string{"tallow-xs1-properties.png", "tallow-xs1-rating.png"}, plotting.DefaultWidth, plotting.DefaultHeight)
+	// A gauge height of zero flow above the thalweg leaves flowing rows
+	// out of the log–log panel, with a warning.
+	stderr.Reset()
+	if err := run(context.Background(), e, []string{"plot", table, "-o", filepath.Join(dir, "out3"), "--zero-flow", "100.55"}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(stderr.String(), "warning: rating figure: log–log panel: 2 rating point(s)") {
+		t.Errorf("no warning about rows left out:\n%s", stderr.String())
+	}
 }
 
 func TestPlotErrors(t *testing.T) {
