@@ -83,12 +83,12 @@ func nice125(v float64, up bool) float64 {
 }
 
 // linearTicks marks a linear axis at a round step (1, 2 or 5 times a
-// power of ten) giving about n labelled marks (0: TargetTicks), with one
+// power of ten) giving about n labelled marks (0: targetTicks), with one
 // unlabelled mark between labelled ones.
 type linearTicks struct{ n int }
 
-// TargetTicks is the number of labelled marks a linear axis aims for.
-const TargetTicks = 7
+// targetTicks is the number of labelled marks a linear axis aims for.
+const targetTicks = 7
 
 func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 	if !finite(min, max) || !(max > min) {
@@ -96,7 +96,7 @@ func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 	}
 	n := lt.n
 	if n <= 0 {
-		n = TargetTicks
+		n = targetTicks
 	}
 	step := niceStep((max - min) / float64(n))
 	var out []plot.Tick
