@@ -43,9 +43,10 @@ func regionTag(r string) string {
 	return "channel"
 }
 
-// lengthColumn marks the columns of rowValues that hold lengths:
-// stage, depth, wetted perimeter, top width, hydraulic radius and depth.
-var lengthColumn = map[int]bool{0: true, 1: true, 3: true, 4: true, 5: true, 11: true}
+// lengthColumn marks the columns of rowValues written to a fixed number of
+// decimals (FormatLength): stage and depth, whose absolute precision is
+// what a gauge reader needs. Everything else keeps 6 significant digits.
+var lengthColumn = map[int]bool{0: true, 1: true}
 
 // rowValues returns a row's values in column order.
 func rowValues(r rating.Row) []float64 {

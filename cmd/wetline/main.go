@@ -40,6 +40,7 @@ var commands = map[string]command{
 	"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
 	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
 	"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
+	"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
 }
 
 // usageError marks an error in the command line (exit status 2).

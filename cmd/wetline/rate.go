@@ -21,7 +21,7 @@ type rateFlags struct {
 	calib          calibrateFlags
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -35,6 +35,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.StringVar(&f.format, "format", "", "output format: csv, json or text (aligned columns to read on screen); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
+	plotDir := fs.String("plots", "", "also write the rating, section and properties figures (PNG) into this folder")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
@@ -69,6 +70,12 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return l.fail(err)
 	}
 	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
+	// Figures are drawn in memory first: a drawing error writes nothing.
+	figs, figWarnings, err := rateFigures(*plotDir, fs.Arg(0), l, t)
+	if err != nil {
+		return err
+	}
+	warnings = append(warnings, figWarnings...)
 	write := func(w io.Writer) error {
 		switch format {
 		case "json":
@@ -82,12 +89,18 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
+		if err := writeFigures(e.stderr, *plotDir, figs, l.inputs); err != nil {
+			return err
+		}
 		if format != "text" {
 			printWarnings(e.stderr, warnings)
 		}
 		return nil
 	}
 	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
+		return err
+	}
+	if err := writeFigures(e.stderr, *plotDir, figs, append([]string{f.output}, l.inputs...)); err != nil {
 		return err
 	}
 	summarizeRating(e.stderr, t, f.output, warnings)

@@ -44,6 +44,9 @@ type loaded struct {
 	warnings []string
 	source   string          // the survey path or the shape spec, for messages
 	shape    subdivide.Shape // the built shape, when one was given
+
+	// section is the section as compiled, after the flag overrides.
+	section subdivide.Section
 }
 
 // load reads the survey at path and applies the flag overrides.
@@ -105,6 +108,7 @@ func (sf *sectionFlags) load(path string) (*loaded, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
+	l.section = sec
 	return sf.finish(l, p)
 }
 

@@ -45,6 +45,11 @@ func (sf *sectionFlags) loadShape(l *loaded, path string) (*loaded, error) {
 	if err != nil {
 		return nil, usageError{err}
 	}
+	if !sh.Closed() {
+		if sec, err := sh.Section(n); err == nil {
+			l.section = sec
+		}
+	}
 	if sh.Closed() {
 		l.warnings = append(l.warnings, fmt.Sprintf(
 			"closed conduit: at its crown (stage %g %s) it flows full: the wetted perimeter is the whole circumference, the top width is zero and the Froude number is undefined; a stage above the crown is an error",

@@ -1,0 +1,125 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"image/png"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"wetline/plotting"
+)
+
+// decodeAll checks that dir holds exactly the named PNGs at the given size.
+func decodeAll(t *testing.T, dir string, names []string, w, h int) {
+	t.Helper()
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(entries) != len(names) {
+		var got []string
+		for _, e := range entries {
+			got = append(got, e.Name())
+		}
+		t.Fatalf("%s holds %q, want %q", dir, got, names)
+	}
+	for _, n := range names {
+		data, err := os.ReadFile(filepath.Join(dir, n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		img, err := png.Decode(bytes.NewReader(data))
+		if err != nil {
+			t.Fatalf("%s: %v", n, err)
+		}
+		if b := img.Bounds(); b.Dx() != w || b.Dy() != h {
+			t.Errorf("%s: %d×%d, want %d×%d", n, b.Dx(), b.Dy(), w, h)
+		}
+	}
+}
+
+var figureNames = []string{"tallow-xs1-properties.png", "tallow-xs1-rating.png", "tallow-xs1-section.png"}
+
+func TestRatePlots(t *testing.T) {
+	dir := t.TempDir()
+	plots := filepath.Join(dir, "figs")
+	var stdout, stderr bytes.Buffer
+	err := run(context.Background(), &env{stdout: &stdout, stderr: &stderr},
+		[]string{"rate", filepath.Join("..", "..", "testdata", "tallow-xs1.csv"), "--slope", "0.0012", "-o", filepath.Join(dir, "r.csv"), "--plots", plots})
+	if err != nil {
+		t.Fatal(err, stderr.String())
+	}
+	decodeAll(t, plots, figureNames, plotting.DefaultWidth, plotting.DefaultHeight)
+	if !strings.Contains(stderr.String(), "tallow-xs1-rating.png") {
+		t.Errorf("figures not listed:\n%s", stderr.String())
+	}
+}
+
+func TestPlotRedraw(t *testing.T) {
+	dir := t.TempDir()
+	var stdout, stderr bytes.Buffer
+	e := &env{stdout: &stdout, stderr: &stderr}
+	survey := filepath.Join("..", "..", "testdata", "tallow-xs1.csv")
+	table := filepath.Join(dir, "tallow-xs1-rating.csv")
+	if err := run(context.Background(), e, []string{"rate", survey, "--slope", "0.0012", "-o", table}); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	if err := run(context.Background(), e, []string{"plot", table, "--section", survey, "-o", out,
+		"--width", "800", "--height", "500", "--dpi", "96", "--site", "Tallow Creek"}); err != nil {
+		t.Fatal(err, stderr.String())
+	}
+	decodeAll(t, out, figureNames, 800, 500)
+	// Without a section: no section figure.
+	out2 := filepath.Join(dir, "out2")
+	if err := run(context.Background(), e, []string{"plot", table, "-o", out2}); err != nil {
+		t.Fatal(err)
+	}
+	decodeAll(t, out2, []string{"tallow-xs1-properties.png", "tallow-xs1-rating.png"}, plotting.DefaultWidth, plotting.DefaultHeight)
+	// A gauge height of zero flow above the thalweg leaves flowing rows
+	// out of the log–log panel, with a warning.
+	stderr.Reset()
+	if err := run(context.Background(), e, []string{"plot", table, "-o", filepath.Join(dir, "out3"), "--zero-flow", "100.55"}); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(stderr.String(), "warning: rating figure: log–log panel: 2 rating point(s)") {
+		t.Errorf("no warning about rows left out:\n%s", stderr.String())
+	}
+}
+
+func TestPlotErrors(t *testing.T) {
+	dir := t.TempDir()
+	bad := filepath.Join(dir, "bad.csv")
+	if err := os.WriteFile(bad, []byte("stage,discharge\n1,2\n2,lots\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name   string
+		args   []string
+		usage  bool
+		errHas string
+	}{
+		{"no table", []string{"plot"}, true, "want one TABLE"},
+		{"tiny figure", []string{"plot", bad, "--width", "10"}, true, "figure size"},
+		{"bad cell", []string{"plot", bad}, false, `bad.csv:3:2: discharge "lots"`},
+		{"missing file", []string{"plot", filepath.Join(dir, "none.csv")}, false, "none.csv"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))
+			args := append(append([]string(nil), tc.args...), "-o", out)
+			var stdout, stderr bytes.Buffer
+			err := run(context.Background(), &env{stdout: &stdout, stderr: &stderr}, args)
+			var ue usageError
+			if err == nil || errors.As(err, &ue) != tc.usage || !strings.Contains(err.Error(), tc.errHas) {
+				t.Fatalf("error %v (usage %v), want %q (usage %v)", err, errors.As(err, &ue), tc.errHas, tc.usage)
+			}
+			if _, serr := os.Stat(out); serr == nil {
+				t.Errorf("output folder %s was created on error", out)
+			}
+		})
+	}
+}

@@ -1,0 +1,203 @@
+package plotting
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"sort"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// PropertyRow is the hydraulic geometry of a section at one stage.
+// Undefined values are NaN and break the drawn line.
+type PropertyRow struct {
+	// Stage is the water-surface elevation (length unit).
+	Stage float64
+	// Area (length²), TopWidth (length), HydraulicRadius (length).
+	Area, TopWidth, HydraulicRadius float64
+	// Conveyance K (discharge unit at unit slope).
+	Conveyance float64
+	// Alpha is the energy (velocity-head) coefficient, dimensionless.
+	Alpha float64
+	// MeanVelocity (length/s); NaN when unknown.
+	MeanVelocity float64
+}
+
+// PropertiesPlot is a small-multiples figure of hydraulic properties
+// against stage, with the bankfull stage marked across every panel.
+type PropertiesPlot struct {
+	// Site and Section name the place in the title.
+	Site, Section string
+	// Subtitle is an optional second line under the title.
+	Subtitle string
+	// Units is the unit system of every value.
+	Units rating.Units
+	// Rows are the properties by stage, in any order.
+	Rows []PropertyRow
+	// Bankfull is the stage at which the water leaves the main channel
+	// (length unit), marked when HasBankfull is true; see Bankfull.
+	Bankfull    float64
+	HasBankfull bool
+	// Size is the pixel size (zero value: the default).
+	Size Size
+}
+
+// Bankfull returns the bankfull stage of a section: the lower of the
+// ground elevations at the two bank stations. It reports false for a
+// section without banks.
+func Bankfull(s subdivide.Section) (float64, bool) {
+	if !s.HasBanks || len(s.Points) < 2 {
+		return 0, false
+	}
+	return math.Min(groundAt(s.Points, s.LeftBank), groundAt(s.Points, s.RightBank)), true
+}
+
+// groundAt interpolates the ground at station x (on a vertical wall, the
+// higher point).
+func groundAt(pts []subdivide.Point, x float64) float64 {
+	best := math.Inf(-1)
+	for i := 0; i+1 < len(pts); i++ {
+		a, b := pts[i], pts[i+1]
+		if a.Station <= x && x <= b.Station {
+			if a.Station == b.Station {
+				best = math.Max(best, math.Max(a.Elevation, b.Elevation))
+				continue
+			}
+			t := (x - a.Station) / (b.Station - a.Station)
+			best = math.Max(best, a.Elevation+t*(b.Elevation-a.Elevation))
+		}
+	}
+	if math.IsInf(best, -1) {
+		return math.NaN()
+	}
+	return best
+}
+
+// PropertiesFromTable copies the properties of a rating table.
+func PropertiesFromTable(t rating.Table) []PropertyRow {
+	out := make([]PropertyRow, len(t.Rows))
+	for i, r := range t.Rows {
+		out[i] = PropertyRow{Stage: r.Stage, Area: r.Area, TopWidth: r.TopWidth, HydraulicRadius: r.HydraulicRadius,
+			Conveyance: r.Conveyance, Alpha: r.Alpha, MeanVelocity: r.MeanVelocity}
+	}
+	return out
+}
+
+// Properties draws area, top width, hydraulic radius, conveyance, α and
+// mean velocity against stage, one panel each, as a PNG into w. A panel
+// whose values are all undefined is left out with a warning.
+func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
+	var res Result
+	un := names(pp.Units)
+	quantities := []struct {
+		title, unit string
+		fromZero    bool
+		get         func(PropertyRow) float64
+	}{
+		{"Flow area A", un.area, true, func(r PropertyRow) float64 { return r.Area }},
+		{"Top width T", un.length, true, func(r PropertyRow) float64 { return r.TopWidth }},
+		{"Hydraulic radius R", un.length, true, func(r PropertyRow) float64 { return r.HydraulicRadius }},
+		{"Conveyance K", un.discharge, true, func(r PropertyRow) float64 { return r.Conveyance }},
+		{"Energy coefficient α", "dimensionless", false, func(r PropertyRow) float64 { return r.Alpha }},
+		{"Mean velocity V", un.velocity, true, func(r PropertyRow) float64 { return r.MeanVelocity }},
+	}
+	bankfull := pp.HasBankfull && finite(pp.Bankfull)
+	rows := make([]PropertyRow, 0, len(pp.Rows))
+	for _, r := range pp.Rows {
+		if finite(r.Stage) {
+			rows = append(rows, r)
+		}
+	}
+	sortRows(rows)
+	if len(rows) == 0 {
+		return res, fmt.Errorf("%w: the properties figure needs rows with a stage", ErrNoData)
+	}
+	var panels []*plot.Plot
+	for _, q := range quantities {
+		p := newPanel(q.title, q.unit, "")
+		p.Title.TextStyle.Font = sansBold(sizeLabel)
+		if bankfull {
+			p.Add(zoneAbove{y: pp.Bankfull, color: colOverbank})
+		}
+		addGrid(p)
+		p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{n: 4}, linearTicks{}
+		n := 0
+		var runXY plotter.XYs
+		flush := func() {
+			if len(runXY) == 0 {
+				return
+			}
+			l, s, err := plotter.NewLinePoints(runXY)
+			if err == nil {
+				l.LineStyle = lineStyle(colHydraulic, 1.8)
+				s.GlyphStyle = draw.GlyphStyle{Color: colHydraulic, Radius: vg.Points(1.8), Shape: draw.CircleGlyph{}}
+				p.Add(l, s)
+			}
+			runXY = nil
+		}
+		for _, r := range rows {
+			v := q.get(r)
+			if !finite(v) {
+				flush()
+				continue
+			}
+			runXY = append(runXY, plotter.XY{X: v, Y: r.Stage})
+			n++
+		}
+		flush()
+		if n == 0 {
+			res.Warnings = append(res.Warnings, q.title+": no defined values; panel left out")
+			continue
+		}
+		if bankfull {
+			p.Add(hline{y: pp.Bankfull, style: lineStyle(colBank, 1.4, vg.Points(7), vg.Points(3)),
+				label: "bankfull " + fmtStage(pp.Bankfull)})
+		}
+		p.Y.Min = rows[0].Stage
+		p.Y.Max = rows[len(rows)-1].Stage
+		if q.fromZero && p.X.Min > 0 {
+			p.X.Min = 0
+		}
+		panels = append(panels, p)
+	}
+	if len(panels) == 0 {
+		return res, fmt.Errorf("%w: no property has a defined value", ErrNoData)
+	}
+	cols := 3
+	if len(panels) <= 2 {
+		cols = len(panels)
+	}
+	nrows := (len(panels) + cols - 1) / cols
+	for i, p := range panels {
+		if i%cols == 0 {
+			p.Y.Label.Text = "Stage, " + un.length
+		}
+	}
+	sub := pp.Subtitle
+	if sub == "" {
+		sub = "One panel per property, stage on the vertical axis"
+		if bankfull {
+			sub = fmt.Sprintf("Shaded above bankfull, %s %s (the lower bank top), where the overbanks flow", fmtStage(pp.Bankfull), un.length)
+		}
+	}
+	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: sub}
+	err := render(w, pp.Size, fig, func(c draw.Canvas) error {
+		tiles := draw.Tiles{Rows: nrows, Cols: cols, PadX: vg.Points(16), PadY: vg.Points(14)}
+		for i, p := range panels {
+			p.Draw(tiles.At(c, i%cols, i/cols))
+		}
+		return nil
+	})
+	return res, err
+}
+
+func sortRows(rows []PropertyRow) {
+	sort.SliceStable(rows, func(i, j int) bool { return rows[i].Stage < rows[j].Stage })
+}

@@ -1,0 +1,594 @@
+package plotting
+
+import (
+	"fmt"
+	"image/color"
+	"io"
+	"math"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"wetline/rating"
+)
+
+// RatingPoint is one point of a rating curve.
+type RatingPoint struct {
+	// Stage is the gauge height or water-surface elevation (length unit).
+	Stage float64
+	// Discharge is the flow at that stage (discharge unit).
+	Discharge float64
+	// Extrapolated marks a point beyond the range the curve is supported
+	// by (above the highest or below the lowest gauging); segments
+	// touching such a point are drawn dashed.
+	Extrapolated bool
+}
+
+// Curve is a labelled rating curve. Points may come in any order; they
+// are drawn in order of stage, and points with a NaN or infinite value are
+// left out.
+type Curve struct {
+	// Label names the curve in the legend ("" gives a default).
+	Label  string
+	Points []RatingPoint
+}
+
+// BandPoint is the confidence band of a rating at one stage.
+type BandPoint struct {
+	// Stage (length unit); Low and High bound the discharge (discharge unit).
+	Stage, Low, High float64
+}
+
+// Gauging is one discharge measurement drawn over a rating.
+type Gauging struct {
+	// Stage is the gauge height, in the same datum as the curves.
+	Stage float64
+	// Discharge is the measured flow (discharge unit).
+	Discharge float64
+	// Quality is the measurement's rated quality: "excellent", "good",
+	// "fair" or "poor" (any case); anything else is drawn as unrated.
+	Quality string
+}
+
+// Measurement-quality bands in percent of the measured discharge:
+// excellent within 2 %, good 5 %, fair 8 %, poor over 8 %. Source: the
+// agency bands quoted in ../shared/reference/README.md (USGS measurement
+// ratings). A poor gauging has no upper bound and gets no error bar.
+const (
+	BandExcellent = 2.0 // percent
+	BandGood      = 5.0 // percent
+	BandFair      = 8.0 // percent
+)
+
+// QualityBand returns the percent band of a quality name, and false for
+// poor or unknown qualities (no bounded band).
+func QualityBand(q string) (float64, bool) {
+	switch strings.ToLower(strings.TrimSpace(q)) {
+	case "excellent", "e":
+		return BandExcellent, true
+	case "good", "g":
+		return BandGood, true
+	case "fair", "f":
+		return BandFair, true
+	}
+	return 0, false
+}
+
+// RatingPlot is a stage–discharge rating figure: a panel of stage
+// against discharge on linear axes and, when a gauge height of zero flow
+// is known, a log–log panel of discharge against the stage above it.
+type RatingPlot struct {
+	// Site and Section name the place in the title.
+	Site, Section string
+	// Subtitle is a second line under the title (slope, method, source).
+	Subtitle string
+	// Units is the unit system of every value.
+	Units rating.Units
+	// Hydraulic is the rating computed from the section (dark solid line).
+	Hydraulic Curve
+	// Fitted is a fitted rating equation (copper line; extrapolated parts
+	// dashed).
+	Fitted Curve
+	// Band is a confidence band of the fitted relation, drawn shaded.
+	Band []BandPoint
+	// BandLabel names the band in the legend (default "95 % confidence band").
+	BandLabel string
+	// Gaugings are measurements drawn as points, their shape by quality,
+	// with a horizontal bar spanning their quality band.
+	Gaugings []Gauging
+	// ZeroFlow is the gauge height of zero flow e (length unit) used by
+	// the log–log panel when HasZeroFlow is true. Otherwise e is taken
+	// from the hydraulic curve (the highest stage with no discharge below
+	// its first flowing point), and the log panel is left out when the
+	// curve gives none.
+	ZeroFlow    float64
+	HasZeroFlow bool
+	// Bankfull, when HasBankfull is true, is marked across the linear
+	// panel (length unit; see the package function Bankfull).
+	Bankfull    float64
+	HasBankfull bool
+	// Notes are extra lines at the foot, above the caution (the source of
+	// an extrapolation, the fit's standard error).
+	Notes []string
+	// Caution is the line at the foot of the figure; "" gives DefaultCaution.
+	Caution string
+	// Size is the pixel size (zero value: the default).
+	Size Size
+}
+
+// Rating draws a rating figure as a PNG into w.
+//
+// The log–log panel leaves out every point at or below the gauge height
+// of zero flow or without positive discharge (a log axis cannot show
+// them); Result.Omitted counts them, and Result.Warnings reports them,
+// except curve points without flow at or below e, which every hydraulic
+// rating has (the dry channel).
+func Rating(w io.Writer, r RatingPlot) (Result, error) {
+	var res Result
+	hyd, fit := cleanCurve(r.Hydraulic), cleanCurve(r.Fitted)
+	band := cleanBand(r.Band)
+	var gaugings []Gauging
+	for _, g := range r.Gaugings {
+		if finite(g.Stage, g.Discharge) {
+			gaugings = append(gaugings, g)
+		}
+	}
+	if n := len(r.Gaugings) - len(gaugings); n > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gauging(s) with a missing stage or discharge left out", n))
+	}
+	if len(hyd)+len(fit)+len(gaugings) == 0 {
+		return res, fmt.Errorf("%w: the rating figure needs a curve or gaugings", ErrNoData)
+	}
+	un := names(r.Units)
+	e, haveE := r.ZeroFlow, r.HasZeroFlow && finite(r.ZeroFlow)
+	if !haveE {
+		e, haveE = zeroFlowOf(hyd)
+	}
+	if !haveE {
+		res.Warnings = append(res.Warnings, "no gauge height of zero flow known: the log–log panel is left out")
+	}
+	hydLabel := orDefault(r.Hydraulic.Label, "hydraulic rating (Manning)")
+	fitLabel := orDefault(r.Fitted.Label, "fitted rating")
+	bandLabel := orDefault(r.BandLabel, "95 % confidence band")
+
+	lin := newPanel("Stage–discharge", "Discharge, "+un.discharge, "Stage, "+un.length)
+	addGrid(lin)
+	if len(band) > 1 {
+		if poly := bandPolygon(band, 0, false); poly != nil {
+			lin.Add(poly)
+			lin.Legend.Add(bandLabel, poly)
+		}
+	}
+	addCurve(lin, hyd, hydLabel, colHydraulic, 2.2, 0, false)
+	addCurve(lin, fit, fitLabel, colFitted, 1.8, 0, false)
+	addGaugings(lin, gaugings, 0, false)
+	// A rating rises to the right: the upper left stays empty.
+	lin.Legend.Top = true
+	lin.Legend.Left = true
+	lin.Legend.XOffs = vg.Points(8)
+	lin.Legend.YOffs = -vg.Points(6)
+	if lin.X.Min > 0 {
+		lin.X.Min = 0 // discharge from zero, unless data lie below it
+	}
+	lin.Y.Tick.Marker = linearTicks{}
+	lin.X.Tick.Marker = linearTicks{}
+	if haveE {
+		addZeroFlowLine(lin, e)
+	}
+	if r.HasBankfull && finite(r.Bankfull) {
+		lin.Add(hline{y: r.Bankfull, style: lineStyle(colBank, 1.2, vg.Points(7), vg.Points(3)),
+			label: "bankfull " + fmtStage(r.Bankfull)})
+	}
+
+	panels := []*plot.Plot{lin}
+	if haveE {
+		// A short axis label: gonum places a log axis label's box by the
+		// arithmetic mid-range, so a long one pads the panel needlessly.
+		lg := newPanel(fmt.Sprintf("Log–log: stage above zero flow, e = %s %s", fmtStage(e), un.length),
+			"Discharge, "+un.discharge, "h − e, "+un.length)
+		omitted, warned := 0, 0
+		for _, c := range [][]RatingPoint{hyd, fit} {
+			for _, p := range c {
+				if p.Stage-e > 0 && p.Discharge > 0 {
+					continue
+				}
+				omitted++
+				// A dry point at or below e is what a rating should
+				// have; flow at or below e, or negative flow, is not.
+				if !(p.Discharge == 0 && p.Stage <= e) {
+					warned++
+				}
+			}
+		}
+		gOut := 0
+		for _, g := range gaugings {
+			if !(g.Stage-e > 0 && g.Discharge > 0) {
+				gOut++
+			}
+		}
+		res.Omitted = omitted + gOut
+		if gOut > 0 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf(
+				"log–log panel: %d gauging(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+				gOut, fmtStage(e), un.length))
+		}
+		if warned > 0 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf(
+				"log–log panel: %d rating point(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+				warned, fmtStage(e), un.length))
+		}
+		addGrid(lg)
+		if len(band) > 1 {
+			if poly := bandPolygon(band, e, true); poly != nil {
+				lg.Add(poly)
+			}
+		}
+		n := addCurve(lg, hyd, "", colHydraulic, 2.2, e, true)
+		n += addCurve(lg, fit, "", colFitted, 1.8, e, true)
+		n += addGaugings(lg, gaugings, e, true)
+		if n == 0 {
+			res.Warnings = append(res.Warnings, "log–log panel: no point lies above the gauge height of zero flow; panel left out")
+		} else {
+			lg.X.Scale, lg.Y.Scale = plot.LogScale{}, plot.LogScale{}
+			lg.X.Tick.Marker, lg.Y.Tick.Marker = LogTicks125{}, LogTicks125{}
+			xlo, xhi, ylo, yhi := logExtent(hyd, fit, band, gaugings, e)
+			lg.X.Min, lg.X.Max = logRange(xlo, xhi)
+			lg.Y.Min, lg.Y.Max = logRange(ylo, yhi)
+			panels = append(panels, lg)
+		}
+	}
+	caution := orDefault(r.Caution, DefaultCaution)
+	fig := figure{
+		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
+		subtitle:  r.Subtitle,
+		foot:      append(append([]string(nil), r.Notes...), caution),
+		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+	}
+	err := render(w, r.Size, fig, func(c draw.Canvas) error {
+		drawRow(c, panels, vg.Points(22))
+		return nil
+	})
+	return res, err
+}
+
+func orDefault(s, def string) string {
+	if strings.TrimSpace(s) == "" {
+		return def
+	}
+	return s
+}
+
+// cleanCurve returns the finite points of c sorted by stage.
+func cleanCurve(c Curve) []RatingPoint {
+	var out []RatingPoint
+	for _, p := range c.Points {
+		if finite(p.Stage, p.Discharge) {
+			out = append(out, p)
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Stage < out[j].Stage })
+	return out
+}
+
+func cleanBand(b []BandPoint) []BandPoint {
+	var out []BandPoint
+	for _, p := range b {
+		if finite(p.Stage, p.Low, p.High) && p.Low <= p.High {
+			out = append(out, p)
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].Stage < out[j].Stage })
+	return out
+}
+
+// zeroFlowOf returns the highest stage of the curve's leading run of
+// points without discharge: the stage where the hydraulic rating starts
+// to flow.
+func zeroFlowOf(c []RatingPoint) (float64, bool) {
+	e, ok := 0.0, false
+	for _, p := range c {
+		if p.Discharge > 0 {
+			break
+		}
+		e, ok = p.Stage, true
+	}
+	return e, ok
+}
+
+// logExtent returns the range of the positive values drawn on the log panel.
+func logExtent(hyd, fit []RatingPoint, band []BandPoint, gs []Gauging, e float64) (xlo, xhi, ylo, yhi float64) {
+	xlo, ylo = math.Inf(1), math.Inf(1)
+	xhi, yhi = math.Inf(-1), math.Inf(-1)
+	add := func(q, d float64) {
+		if q > 0 && d > 0 && finite(q, d) {
+			xlo, xhi = math.Min(xlo, q), math.Max(xhi, q)
+			ylo, yhi = math.Min(ylo, d), math.Max(yhi, d)
+		}
+	}
+	for _, c := range [][]RatingPoint{hyd, fit} {
+		for _, p := range c {
+			add(p.Discharge, p.Stage-e)
+		}
+	}
+	for _, g := range gs {
+		add(g.Discharge, g.Stage-e)
+	}
+	for _, b := range band {
+		if b.Stage-e > 0 {
+			add(b.Low, b.Stage-e)
+			add(b.High, b.Stage-e)
+		}
+	}
+	return
+}
+
+// addCurve draws a curve on p (on the log panel: discharge against
+// stage − e, keeping positive values only) as solid runs and dashed
+// extrapolated runs. It returns the number of points drawn.
+func addCurve(p *plot.Plot, pts []RatingPoint, label string, c color.Color, width, e float64, logv bool) int {
+	var xy plotter.XYs
+	var ext []bool
+	for _, q := range pts {
+		y := q.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && q.Discharge > 0) {
+				continue
+			}
+		}
+		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
+		ext = append(ext, q.Extrapolated)
+	}
+	if len(xy) == 0 {
+		return 0
+	}
+	solid := lineStyle(c, width)
+	dashed := lineStyle(c, width, vg.Points(7), vg.Points(4))
+	labelledSolid, labelledDash := false, false
+	for _, run := range splitRuns(ext) {
+		seg := xy[run.from : run.to+1]
+		if len(seg) < 2 {
+			continue
+		}
+		l, err := plotter.NewLine(seg)
+		if err != nil {
+			continue
+		}
+		l.LineStyle = solid
+		if run.extrapolated {
+			l.LineStyle = dashed
+		}
+		p.Add(l)
+		switch {
+		case label == "":
+		case run.extrapolated && !labelledDash:
+			p.Legend.Add(label+", extrapolated", l)
+			labelledDash = true
+		case !run.extrapolated && !labelledSolid:
+			p.Legend.Add(label, l)
+			labelledSolid = true
+		}
+	}
+	if len(xy) == 1 {
+		s, err := plotter.NewScatter(xy)
+		if err == nil {
+			s.GlyphStyle = draw.GlyphStyle{Color: c, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
+			p.Add(s)
+			if label != "" {
+				p.Legend.Add(label, s)
+			}
+		}
+	}
+	return len(xy)
+}
+
+type run struct {
+	from, to     int // inclusive point indices
+	extrapolated bool
+}
+
+// splitRuns splits a polyline into runs of segments: a segment is
+// extrapolated when either end point is. Consecutive runs share their
+// boundary point, so the drawn line is unbroken.
+func splitRuns(ext []bool) []run {
+	var out []run
+	for i := 0; i+1 < len(ext); i++ {
+		x := ext[i] || ext[i+1]
+		if n := len(out); n > 0 && out[n-1].extrapolated == x {
+			out[n-1].to = i + 1
+			continue
+		}
+		out = append(out, run{from: i, to: i + 1, extrapolated: x})
+	}
+	return out
+}
+
+// bandPolygon builds the shaded band; on the log panel only stages above
+// e with a positive lower bound are kept.
+func bandPolygon(b []BandPoint, e float64, logv bool) *plotter.Polygon {
+	var lo, hi plotter.XYs
+	for _, p := range b {
+		y := p.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && p.Low > 0) {
+				continue
+			}
+		}
+		lo = append(lo, plotter.XY{X: p.Low, Y: y})
+		hi = append(hi, plotter.XY{X: p.High, Y: y})
+	}
+	if len(lo) < 2 {
+		return nil
+	}
+	ring := append(plotter.XYs(nil), lo...)
+	for i := len(hi) - 1; i >= 0; i-- {
+		ring = append(ring, hi[i])
+	}
+	poly, err := plotter.NewPolygon(ring)
+	if err != nil {
+		return nil
+	}
+	poly.Color = colBand
+	poly.LineStyle.Width = 0
+	return poly
+}
+
+// gaugingStyle gives each quality its own shape, so a greyscale print
+// keeps them apart.
+func gaugingStyle(q string) (string, draw.GlyphStyle) {
+	r := vg.Points(4.2)
+	switch strings.ToLower(strings.TrimSpace(q)) {
+	case "excellent", "e":
+		return "excellent", draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.CircleGlyph{}}
+	case "good", "g":
+		return "good", draw.GlyphStyle{Color: colWater, Radius: r * 0.9, Shape: draw.BoxGlyph{}}
+	case "fair", "f":
+		return "fair", draw.GlyphStyle{Color: colBank, Radius: r * 1.1, Shape: draw.PyramidGlyph{}}
+	case "poor", "p":
+		return "poor", draw.GlyphStyle{Color: colFitted, Radius: r, Shape: draw.CrossGlyph{}}
+	}
+	return "unrated", draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.RingGlyph{}}
+}
+
+var qualityOrder = []string{"excellent", "good", "fair", "poor", "unrated"}
+
+// addGaugings draws the gaugings grouped by quality, each with its
+// quality band as a horizontal bar. It returns the number drawn.
+func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
+	groups := map[string]plotter.XYs{}
+	styles := map[string]draw.GlyphStyle{}
+	var bars []hbar
+	n := 0
+	for _, g := range gs {
+		y := g.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && g.Discharge > 0) {
+				continue
+			}
+		}
+		name, st := gaugingStyle(g.Quality)
+		groups[name] = append(groups[name], plotter.XY{X: g.Discharge, Y: y})
+		styles[name] = st
+		if pct, ok := QualityBand(g.Quality); ok {
+			bars = append(bars, hbar{y: y, x0: g.Discharge * (1 - pct/100), x1: g.Discharge * (1 + pct/100), color: st.Color})
+		}
+		n++
+	}
+	if len(bars) > 0 {
+		p.Add(hbars(bars))
+	}
+	for _, q := range qualityOrder {
+		xy, ok := groups[q]
+		if !ok {
+			continue
+		}
+		s, err := plotter.NewScatter(xy)
+		if err != nil {
+			continue
+		}
+		s.GlyphStyle = styles[q]
+		p.Add(s)
+		label := "gauging, " + q
+		if pct, ok := QualityBand(q); ok {
+			label += fmt.Sprintf(" (±%g %%)", pct)
+		}
+		if !logv {
+			p.Legend.Add(label, s)
+		}
+	}
+	return n
+}
+
+type hbar struct {
+	y, x0, x1 float64
+	color     color.Color
+}
+
+// hbars draws horizontal bars (a gauging's quality band) with end ticks.
+type hbars []hbar
+
+func (b hbars) Plot(c draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&c)
+	tick := vg.Points(2.5)
+	for _, h := range b {
+		if h.x0 <= 0 && p.X.Scale != nil {
+			if _, isLog := p.X.Scale.(plot.LogScale); isLog {
+				continue
+			}
+		}
+		y := ty(h.y)
+		x0, x1 := tx(h.x0), tx(h.x1)
+		ls := lineStyle(h.color, 0.9)
+		c.StrokeLine2(ls, x0, y, x1, y)
+		c.StrokeLine2(ls, x0, y-tick, x0, y+tick)
+		c.StrokeLine2(ls, x1, y-tick, x1, y+tick)
+	}
+}
+
+// addZeroFlowLine marks the gauge height of zero flow on the linear panel.
+func addZeroFlowLine(p *plot.Plot, e float64) {
+	p.Add(hline{y: e, style: lineStyle(colMuted, 1, vg.Points(2), vg.Points(3)),
+		label: "e = " + fmtStage(e) + " (zero flow)"})
+}
+
+// hline is a horizontal reference line across the panel with a small
+// label at its right end.
+type hline struct {
+	y     float64
+	style draw.LineStyle
+	label string
+}
+
+func (h hline) Plot(c draw.Canvas, p *plot.Plot) {
+	_, ty := p.Transforms(&c)
+	y := ty(h.y)
+	if y < c.Min.Y || y > c.Max.Y {
+		return
+	}
+	c.StrokeLine2(h.style, c.Min.X, y, c.Max.X, y)
+	if h.label != "" {
+		st := textStyle(sans(sizeNote), h.style.Color)
+		st.XAlign = draw.XRight
+		st.YAlign = draw.YBottom
+		haloText(c, st, vg.Point{X: c.Max.X - vg.Points(3), Y: y + vg.Points(4.5)}, h.label)
+	}
+}
+
+// DataRange keeps the line inside the axis range.
+func (h hline) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return math.Inf(1), math.Inf(-1), h.y, h.y
+}
+
+// CurveFromTable returns the discharge column of a rating table as a curve.
+func CurveFromTable(t rating.Table, label string) Curve {
+	c := Curve{Label: label, Points: make([]RatingPoint, 0, len(t.Rows))}
+	for _, r := range t.Rows {
+		c.Points = append(c.Points, RatingPoint{Stage: r.Stage, Discharge: r.Discharge})
+	}
+	return c
+}
+
+// zoneAbove shades the panel above a stage.
+type zoneAbove struct {
+	y     float64
+	color color.Color
+}
+
+func (z zoneAbove) Plot(c draw.Canvas, p *plot.Plot) {
+	_, ty := p.Transforms(&c)
+	y := max(min(ty(z.y), c.Max.Y), c.Min.Y)
+	c.SetColor(z.color)
+	var path vg.Path
+	path.Move(vg.Point{X: c.Min.X, Y: y})
+	path.Line(vg.Point{X: c.Max.X, Y: y})
+	path.Line(vg.Point{X: c.Max.X, Y: c.Max.Y})
+	path.Line(vg.Point{X: c.Min.X, Y: c.Max.Y})
+	path.Close()
+	c.Fill(path)
+}
