@@ -50,6 +50,14 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", name, o.what)
 	}
+	figs, w, err := slopeAreaFigures(rep, "Brindle Creek below Quarry Road (invented)")
+	if err != nil {
+		return err
+	}
+	rep.Warnings = append(rep.Warnings, w...)
+	if err := writeFigures(e.stdout, dir, figs, inputs); err != nil {
+		return err
+	}
 	r := rep.Result
 	fmt.Fprintf(e.stdout, "  peak discharge %s %s", sig3(r.Discharge), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {

@@ -13,7 +13,7 @@ import (
 	"wetline/survey"
 )
 
-const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
+const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
 	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--connected] [--no-extend] [--format text|json] [-o FILE]"
 
 // slopeAreaFlags are the settings of a slope-area computation.
@@ -27,10 +27,13 @@ type slopeAreaFlags struct {
 	connected          bool
 	noExtend           bool
 	format, output     string
+	plots, site        string
 }
 
 func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
+	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the sections overlaid (PNG) into this folder")
+	fs.StringVar(&f.site, "site", "", "site name for the figure titles")
 	fs.StringVar(&f.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
@@ -91,6 +94,15 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	var figs []figureFile
+	if f.plots != "" {
+		// Figures are drawn in memory first: a drawing error writes nothing.
+		var w []string
+		if figs, w, err = slopeAreaFigures(rep, f.site); err != nil {
+			return err
+		}
+		rep.Warnings = append(rep.Warnings, w...)
+	}
 	write := func(w io.Writer) error {
 		if format == "json" {
 			return survey.WriteSlopeAreaJSON(w, rep)
@@ -101,12 +113,18 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
+		if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
+			return err
+		}
 		if format == "json" {
 			printWarnings(e.stderr, rep.Warnings)
 		}
 		return nil
 	}
 	if err := survey.WriteFile(f.output, inputs, write); err != nil {
+		return err
+	}
+	if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
 		return err
 	}
 	summarizeSlopeArea(e.stderr, rep, f.output)

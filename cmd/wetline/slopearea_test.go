@@ -6,11 +6,13 @@ import (
 	"encoding/json"
 	"errors"
 	"flag"
+	"image/png"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"wetline/plotting"
 	"wetline/rating"
 	"wetline/survey"
 )
@@ -231,4 +233,38 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 		t.Errorf("demo reach does not read back: %d %q", code, out2)
 	}
 	_ = rating.DefaultReachDraws
+}
+
+// TestSlopeAreaPlots checks that --plots writes both reach figures as PNGs
+// of the default size, and that a bad reach writes no figure.
+func TestSlopeAreaPlots(t *testing.T) {
+	dir := t.TempDir()
+	if _, errs, code := runCLI(t, "demo", "-o", dir); code != 0 {
+		t.Fatal(errs)
+	}
+	plots := filepath.Join(dir, "figs")
+	_, errs, code := runCLI(t, "slopearea", filepath.Join(dir, demoReach), "--plots", plots, "--draws", "200", "-o", filepath.Join(dir, "r.txt"))
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	for _, name := range []string{"reach-brindle-profile.png", "reach-brindle-sections.png"} {
+		f, err := os.Open(filepath.Join(plots, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		cfg, err := png.DecodeConfig(f)
+		f.Close()
+		if err != nil || cfg.Width != plotting.DefaultWidth || cfg.Height != plotting.DefaultHeight {
+			t.Errorf("%s: %v %dx%d", name, err, cfg.Width, cfg.Height)
+		}
+	}
+	bad := filepath.Join(dir, "bad.csv")
+	os.WriteFile(bad, []byte("section,survey,distance,ws_left,ws_right\nA,reach-brindle-xs1.csv,0,51,51\n"), 0o644)
+	none := filepath.Join(dir, "none")
+	if _, _, code := runCLI(t, "slopearea", bad, "--plots", none); code == 0 {
+		t.Error("a one-section reach without --slope was accepted")
+	}
+	if _, err := os.Stat(none); err == nil {
+		t.Error("figures folder made for a failed run")
+	}
 }
