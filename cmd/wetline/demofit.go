@@ -60,6 +60,14 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", f.name, f.what)
 	}
+	figs, w, err := fitFigures(rep, "Tallow Creek at Mill Lane footbridge (invented)", "tallow")
+	if err != nil {
+		return err
+	}
+	rep.Warnings = append(rep.Warnings, w...)
+	if err := writeFigures(e.stdout, dir, figs, inputs); err != nil {
+		return err
+	}
 	printWarnings(e.stdout, rep.Warnings)
 	return nil
 }

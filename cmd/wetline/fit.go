@@ -14,7 +14,7 @@ import (
 )
 
 const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S [--datum D] [--channel-only] [--compare-only]] " +
-	"[--segments N | --breaks H1,H2] [--zero-flow auto|control|VALUE] [--to H] [--step D] [--units si|us] [--format text|json|csv] [-o FILE]"
+	"[--segments N | --breaks H1,H2] [--zero-flow auto|control|VALUE] [--to H] [--step D] [--units si|us] [--format text|json|csv] [-o FILE] [--plots DIR [--site NAME]]"
 
 // fitFlags are the flags of the fit command.
 type fitFlags struct {
@@ -31,6 +31,7 @@ type fitFlags struct {
 	to, step     float64
 	format       string
 	output       string
+	plots, site  string
 }
 
 func runFit(ctx context.Context, e *env, args []string) error {
@@ -50,6 +51,8 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.format, "format", "", "output format: text, json or csv (default: from the -o extension, else text)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings (PNG) into this folder")
+	fs.StringVar(&f.site, "site", "", "site name for the figure title")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
@@ -101,6 +104,16 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		return fmt.Errorf("%s: %w", path, err)
 	}
 	rep.Warnings = append(warnings, rep.Warnings...)
+	var figs []figureFile
+	if f.plots != "" {
+		// Drawn in memory first: a drawing error writes nothing.
+		var w []string
+		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+		if figs, w, err = fitFigures(rep, f.site, base); err != nil {
+			return err
+		}
+		rep.Warnings = append(rep.Warnings, w...)
+	}
 	write := func(w io.Writer) error {
 		switch format {
 		case "json":
@@ -114,12 +127,18 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
+		if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
+			return err
+		}
 		if format != "text" {
 			printWarnings(e.stderr, rep.Warnings)
 		}
 		return nil
 	}
 	if err := survey.WriteFile(f.output, inputs, write); err != nil {
+		return err
+	}
+	if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
 		return err
 	}
 	summarizeFit(e.stderr, rep, f.output)

@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"flag"
+	"image/png"
 	"math"
 	"os"
 	"path/filepath"
@@ -13,6 +14,8 @@ import (
 	"testing"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/plotting"
 )
 
 func init() {
@@ -281,5 +284,29 @@ func TestFitWorkbookGaugings(t *testing.T) {
 	// Noise-free Q = 8·(h − 0.3)² (closed form).
 	if s := doc.Segments[0]; math.Abs(s.ZeroFlowStage-0.3) > 1e-6 || math.Abs(s.Exponent-2) > 1e-6 {
 		t.Errorf("segment %+v, want e 0.3 and b 2", s)
+	}
+}
+
+// TestFitPlots checks that fit --plots writes the rating figure with the
+// gaugings as a PNG of the default size.
+func TestFitPlots(t *testing.T) {
+	dir := t.TempDir()
+	if _, errs, code := runCLI(t, "demo", "-o", dir); code != 0 {
+		t.Fatal(errs)
+	}
+	plots := filepath.Join(dir, "figs")
+	_, errs, code := runCLI(t, "fit", filepath.Join(dir, demoGaugings), "--section", filepath.Join(dir, demoSurvey),
+		"--slope", "0.0012", "--datum", "100", "--plots", plots, "-o", filepath.Join(dir, "fit.json"))
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	f, err := os.Open(filepath.Join(plots, "tallow-gaugings-fit.png"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	cfg, err := png.DecodeConfig(f)
+	if err != nil || cfg.Width != plotting.DefaultWidth || cfg.Height != plotting.DefaultHeight {
+		t.Errorf("%v %dx%d", err, cfg.Width, cfg.Height)
 	}
 }
