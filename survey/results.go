@@ -1,0 +1,375 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// Sheet names of a results workbook, in order.
+const (
+	SheetSummary     = "summary"
+	SheetRating      = "rating"
+	SheetLookup      = "lookup"
+	SheetSubsections = "subsections"
+	SheetPlots       = "plots"
+)
+
+// RatingWorkbook is everything a results workbook of the rate command
+// shows. The zero value of every field but Table is useful.
+type RatingWorkbook struct {
+	// Table is the rating table as computed (any stages, any order).
+	Table rating.Table
+	// Lookup is the same section rated at every hundredth of a unit of
+	// stage (see LookupStages); with no rows the lookup sheet is left out.
+	Lookup rating.Table
+	// Source names the survey read (file and sheet), for the summary.
+	Source string
+	// Version is the program version stated in the summary.
+	Version string
+	// Warnings are shown on the summary sheet.
+	Warnings []string
+	// Pictures are embedded on a plots sheet (none: no sheet).
+	Pictures []Picture
+}
+
+// MaxLookupStages bounds the stages of a lookup table (a tenth as many rows).
+const MaxLookupStages = 200_000
+
+// ErrLookupRange is returned by LookupStages for a range too long to print.
+var ErrLookupRange = errors.New("stage range too long for a lookup table")
+
+// LookupStep is the stage step of a lookup table: a hundredth of the unit
+// of length (0.01 m or 0.01 ft).
+const LookupStep = 0.01
+
+// LookupStages returns the stages of a lookup table from bottom to top:
+// every hundredth of a unit, k/100 for integer k, starting at the tenth at
+// or below bottom (stages below the ground are dry: zero discharge) and
+// ending at the last hundredth at or below top.
+func LookupStages(bottom, top float64) ([]float64, error) {
+	if math.IsNaN(bottom) || math.IsNaN(top) || math.IsInf(bottom, 0) || math.IsInf(top, 0) || top < bottom {
+		return nil, fmt.Errorf("%w: from %g to %g", ErrLookupRange, bottom, top)
+	}
+	k0 := int64(math.Floor(bottom*10+lookupRound)) * 10
+	k1 := int64(math.Floor(top*100 + lookupRound))
+	if k1-k0+1 > MaxLookupStages {
+		return nil, fmt.Errorf("%w: %d stages from %g to %g is more than %d", ErrLookupRange, k1-k0+1, bottom, top, MaxLookupStages)
+	}
+	out := make([]float64, 0, k1-k0+1)
+	for k := k0; k <= k1; k++ {
+		out = append(out, float64(k)/100)
+	}
+	return out, nil
+}
+
+// lookupRound absorbs round-off when a stage is turned into hundredths
+// (a stage within 1e-6 of a hundredth is taken to be on it).
+const lookupRound = 1e-6
+
+// hundredths returns a stage as an integer number of hundredths, and
+// whether it lies on one (within lookupRound).
+func hundredths(h float64) (int64, bool) {
+	k := math.Round(h * 100)
+	return int64(k), math.Abs(h*100-k) <= lookupRound*100
+}
+
+// WriteRatingWorkbook writes a results workbook to w. Sheets:
+//
+//   - summary: section, source, program version, units, slope, banks,
+//     Manning's n by subsection, stage range, warnings and the caution;
+//   - rating: the full table, one row per stage, the columns of
+//     WriteRatingCSV with units in brackets; stage 0.000, discharges to
+//     three significant figures (FormatSig3);
+//   - lookup: discharge by stage in the printed layout of hydrometry, one
+//     row per tenth of a unit of stage and ten columns for the hundredths.
+//     Each cell is the hydraulics computed at that exact stage (taken from
+//     rw.Lookup, no interpolation), so it agrees with the rating sheet
+//     wherever both hold the same stage; a cell whose stage was not
+//     computed (above the section's top) is blank;
+//   - subsections: per stage and subsection, its n, area, wetted
+//     perimeter, top width, conveyance, discharge and velocity;
+//   - plots: the pictures, when given.
+//
+// Every table sheet is streamed, so memory stays bounded for any number of
+// rows.
+func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
+	b := NewBook()
+	defer b.Close()
+	if err := writeSummary(b, rw); err != nil {
+		return err
+	}
+	if err := WriteRatingSheet(b, SheetRating, rw.Table); err != nil {
+		return err
+	}
+	if len(rw.Lookup.Rows) > 0 {
+		if err := WriteLookupSheet(b, SheetLookup, rw.Lookup); err != nil {
+			return err
+		}
+	}
+	if err := WriteSubsectionSheet(b, SheetSubsections, rw.Table); err != nil {
+		return err
+	}
+	if len(rw.Pictures) > 0 {
+		if err := b.Pictures(SheetPlots, rw.Pictures); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// RatingSheetColumns returns the columns of a rating sheet for t: the
+// names of WriteRatingCSV with units and number formats.
+func RatingSheetColumns(t rating.Table) []Column {
+	u := t.Units
+	L, A, Q := u.Length(), u.Area(), u.Discharge()
+	cols := []Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "depth", Unit: L, Format: "0.000"},
+		{Name: "area", Unit: A, Format: FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "hydraulic_radius", Unit: L, Format: "0.000"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "discharge", Unit: Q, Format: FormatSig3},
+		{Name: "mean_velocity", Unit: u.Velocity(), Format: "0.00"},
+		{Name: "alpha", Format: "0.000"},
+		{Name: "froude", Format: "0.00"},
+		{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
+		{Name: "beta", Format: "0.000"},
+		{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"},
+	}
+	for i := range t.Subsections {
+		cols = append(cols, Column{Name: SubsectionColumn(t, i), Unit: Q, Format: FormatSig3})
+	}
+	return cols
+}
+
+// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
+func WriteRatingSheet(b *Book, name string, t rating.Table) error {
+	s, err := b.Table(name, RatingSheetColumns(t))
+	if err != nil {
+		return err
+	}
+	vals := make([]any, 0, len(s.cols))
+	for _, r := range t.Rows {
+		vals = vals[:0]
+		for _, v := range rowValues(r) {
+			vals = append(vals, v)
+		}
+		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+// WriteLookupSheet writes the lookup layout of a table rated at
+// hundredths (see LookupStages): column 1 the stage at each tenth, columns
+// 2 to 11 the discharge at that stage plus 0.00 to 0.09. Rows of t whose
+// stage is not on a hundredth are ignored.
+func WriteLookupSheet(b *Book, name string, t rating.Table) error {
+	L := t.Units.Length()
+	cols := []Column{{Name: "stage", Unit: L, Format: "0.0"}}
+	for j := range 10 {
+		cols = append(cols, Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: FormatSig3, Width: 10})
+	}
+	q := map[int64]float64{}
+	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
+	for _, r := range t.Rows {
+		k, ok := hundredths(r.Stage)
+		if !ok {
+			continue
+		}
+		q[k] = r.Discharge
+		lo, hi = min(lo, k), max(hi, k)
+	}
+	s, err := b.Table(name, cols)
+	if err != nil {
+		return err
+	}
+	if len(q) > 0 {
+		first := floorDiv(lo, 10) * 10
+		vals := make([]any, 11)
+		for base := first; base <= hi; base += 10 {
+			vals[0] = float64(base) / 100
+			for j := int64(0); j < 10; j++ {
+				if v, ok := q[base+j]; ok {
+					vals[j+1] = v
+				} else {
+					vals[j+1] = nil
+				}
+			}
+			if err := s.Row(vals...); err != nil {
+				return err
+			}
+		}
+	}
+	return s.Flush()
+}
+
+func floorDiv(a, b int64) int64 {
+	q := a / b
+	if (a%b != 0) && ((a < 0) != (b < 0)) {
+		q--
+	}
+	return q
+}
+
+// WriteSubsectionSheet writes one row per stage and subsection.
+func WriteSubsectionSheet(b *Book, name string, t rating.Table) error {
+	u := t.Units
+	L := u.Length()
+	s, err := b.Table(name, []Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "subsection", Format: "0"},
+		{Name: "region", Width: 15},
+		{Name: "from_station", Unit: L, Format: "0.00"},
+		{Name: "to_station", Unit: L, Format: "0.00"},
+		{Name: "n", Format: "0.000"},
+		{Name: "area", Unit: u.Area(), Format: FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, r := range t.Rows {
+		for i, sr := range r.Subs {
+			if err := s.Row(r.Stage, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
+				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
+				return err
+			}
+		}
+	}
+	return s.Flush()
+}
+
+// SummaryColumns are the columns of a summary sheet: item, value, unit.
+var SummaryColumns = []Column{
+	{Name: "item", Width: 34},
+	{Name: "value", Width: 70},
+	{Name: "unit", Width: 10},
+}
+
+// writeSummary writes the summary sheet of a results workbook.
+func writeSummary(b *Book, rw RatingWorkbook) error {
+	t := rw.Table
+	u := t.Units
+	s, err := b.Table(SheetSummary, SummaryColumns)
+	if err != nil {
+		return err
+	}
+	ls, err := b.LabelStyle()
+	if err != nil {
+		return err
+	}
+	ws, err := b.WrapStyle()
+	if err != nil {
+		return err
+	}
+	row := func(item string, value any, unit string) error {
+		return s.Row(labelCell(ls, item), wrapCell(ws, value), unit)
+	}
+	version := rw.Version
+	if version == "" {
+		version = "unknown"
+	}
+	type item struct {
+		item  string
+		value any
+		unit  string
+	}
+	items := []item{
+		{"section", t.Name, ""},
+		{"survey", rw.Source, ""},
+		{"program", "wetline " + version, ""},
+		{"method", "Manning's equation by subsection, conveyance summed (Chow, 1959)", ""},
+		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, u.Length(), u.Discharge()), ""},
+		{"friction slope", t.Slope, u.Length() + "/" + u.Length()},
+		{"lowest ground", t.Bottom, u.Length()},
+		{"lower end of the section", t.Top, u.Length()},
+	}
+	if l, r, ok := banks(t.Subsections); ok {
+		items = append(items, item{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
+	} else {
+		items = append(items, item{"main channel between banks", "no banks: the whole section is channel", ""})
+	}
+	for _, it := range items {
+		if err := row(it.item, it.value, it.unit); err != nil {
+			return err
+		}
+	}
+	for i, sub := range t.Subsections {
+		if err := row(fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""); err != nil {
+			return err
+		}
+	}
+	if n := len(t.Rows); n > 0 {
+		lo, hi := t.Rows[0], t.Rows[0]
+		for _, r := range t.Rows {
+			if r.Stage < lo.Stage {
+				lo = r
+			}
+			if r.Stage > hi.Stage {
+				hi = r
+			}
+		}
+		if err := row("stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()); err != nil {
+			return err
+		}
+		if err := row("discharge at the highest stage", hi.Discharge, u.Discharge()); err != nil {
+			return err
+		}
+	}
+	if len(rw.Lookup.Rows) > 0 {
+		if err := row("lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""); err != nil {
+			return err
+		}
+	}
+	if len(rw.Warnings) == 0 {
+		if err := row("warnings", "none", ""); err != nil {
+			return err
+		}
+	}
+	for _, w := range rw.Warnings {
+		if err := row("warning", w, ""); err != nil {
+			return err
+		}
+	}
+	if err := row("caution", Caution, ""); err != nil {
+		return err
+	}
+	return s.Flush()
+}
+
+// banks returns the main-channel limits implied by a subsection layout:
+// the outer stations of the channel subsections, when overbanks exist.
+func banks(subs []subdivide.Subsection) (left, right float64, ok bool) {
+	left, right = math.Inf(1), math.Inf(-1)
+	over := false
+	for _, s := range subs {
+		if s.Region == subdivide.Channel {
+			left, right = min(left, s.From), max(right, s.To)
+		} else {
+			over = true
+		}
+	}
+	return left, right, over && left < right
+}
+
+func labelCell(style int, s string) any { return Styled{style, s} }
+
+func wrapCell(style int, v any) any {
+	if _, ok := v.(string); !ok {
+		return v
+	}
+	return Styled{style, v}
+}
