@@ -303,6 +303,9 @@ func writeSummary(b *Book, rw RatingWorkbook) error {
 		items = append(items, item{"main channel between banks", "no banks: the whole section is channel", ""})
 	}
 	for _, it := range items {
+		if it.value == "" {
+			continue
+		}
 		if err := row(it.item, it.value, it.unit); err != nil {
 			return err
 		}
@@ -325,7 +328,11 @@ func writeSummary(b *Book, rw RatingWorkbook) error {
 		if err := row("stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()); err != nil {
 			return err
 		}
-		if err := row("discharge at the highest stage", hi.Discharge, u.Discharge()); err != nil {
+		qs, err := b.Style(decimalsFormat(Sig3Decimals(hi.Discharge)))
+		if err != nil {
+			return err
+		}
+		if err := row("discharge at the highest stage", Styled{qs, hi.Discharge}, u.Discharge()); err != nil {
 			return err
 		}
 	}
