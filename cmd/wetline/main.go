@@ -33,8 +33,9 @@ type env struct {
 
 // commands lists the subcommands by name.
 var commands = map[string]command{
-	"rate": {"compute a stage–discharge table from a surveyed section", runRate},
-	"demo": {"write an invented demo site, its rating and reports to a folder", runDemo},
+	"rate":     {"compute a stage–discharge table from a surveyed section", runRate},
+	"demo":     {"write an invented demo site, its rating and reports to a folder", runDemo},
+	"template": {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
 }
 
 // usageError marks an error in the command line (exit status 2).

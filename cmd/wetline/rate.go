@@ -20,7 +20,7 @@ type rateFlags struct {
 	format, output string
 }
 
-const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE]"
+const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|xlsx] [-o FILE]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -31,7 +31,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
-	fs.StringVar(&f.format, "format", "", "output format: csv or json (default: from the -o extension, else csv)")
+	fs.StringVar(&f.format, "format", "", "output format: csv, json or xlsx (default: from the -o extension, else csv)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
@@ -42,9 +42,12 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	if !(f.slope > 0) || math.IsInf(f.slope, 0) {
 		return usagef("rate: --slope S (a positive friction slope) is required")
 	}
-	format, err := outputFormat(f.format, f.output, "csv", "json")
+	format, err := outputFormat(f.format, f.output, "csv", "json", "xlsx")
 	if err != nil {
 		return err
+	}
+	if format == "xlsx" && f.output == "" {
+		return usagef("rate: an xlsx workbook needs -o FILE.xlsx")
 	}
 	l, err := f.load(fs.Arg(0))
 	if err != nil {
@@ -64,9 +67,18 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return fmt.Errorf("%s: %w", fs.Arg(0), err)
 	}
 	warnings := append(append([]string(nil), l.warnings...), t.Warnings...)
+	var book survey.RatingWorkbook
+	if format == "xlsx" {
+		if book, warnings, err = ratingBook(l, t, warnings); err != nil {
+			return fmt.Errorf("%s: %w", fs.Arg(0), err)
+		}
+	}
 	write := func(w io.Writer) error {
-		if format == "json" {
+		switch format {
+		case "json":
 			return survey.WriteRatingJSON(w, t, warnings)
+		case "xlsx":
+			return survey.WriteRatingWorkbook(w, book)
 		}
 		return survey.WriteRatingCSV(w, t)
 	}
