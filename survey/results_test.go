@@ -2,7 +2,6 @@ package survey_test
 
 import (
 	"bytes"
-	"flag"
 	"fmt"
 	"image"
 	"image/color"
@@ -23,8 +22,6 @@ import (
 	"wetline/survey"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files under testdata")
-
 // sameValue is the relative tolerance between a number written to a
 // workbook and read back: excelize writes 15 significant digits.
 const sameValue = 1e-13
@@ -34,13 +31,13 @@ const sameValue = 1e-13
 // 10050/100): the stages differ in the last bits only.
 const sameStage = 1e-9
 
-func near(a, b, rel float64) bool {
+func wbNear(a, b, rel float64) bool {
 	return math.Abs(a-b) <= rel*math.Max(math.Abs(a), math.Abs(b))
 }
 
-// tallow rates the demo survey (invented data) on its default stages and
+// wbTallow rates the demo survey (invented data) on its default stages and
 // on every hundredth.
-func tallow(t testing.TB) (coarse, fine rating.Table) {
+func wbTallow(t testing.TB) (coarse, fine rating.Table) {
 	t.Helper()
 	sv, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
 	if err != nil {
@@ -111,8 +108,8 @@ func TestLookupStages(t *testing.T) {
 	}
 }
 
-// testPNG draws a small PNG with a gradient.
-func testPNG(w, h int) []byte {
+// wbPNG draws a small PNG with a gradient.
+func wbPNG(w, h int) []byte {
 	img := image.NewNRGBA(image.Rect(0, 0, w, h))
 	for y := range h {
 		for x := range w {
@@ -157,8 +154,8 @@ func numFmt(t *testing.T, f *excelize.File, sheet, cell string) string {
 }
 
 func TestRatingWorkbook(t *testing.T) {
-	coarse, fine := tallow(t)
-	pics := []survey.Picture{{Name: "rating curve", PNG: testPNG(1600, 1000)}, {Name: "section", PNG: testPNG(200, 100)}}
+	coarse, fine := wbTallow(t)
+	pics := []survey.Picture{{Name: "rating curve", PNG: wbPNG(1600, 1000)}, {Name: "section", PNG: wbPNG(200, 100)}}
 	f := writeResults(t, survey.RatingWorkbook{
 		Table: coarse, Lookup: fine, Source: "tallow-xs1.csv", Version: "9.8.7",
 		Warnings: []string{"a warning for the reader"}, Pictures: pics,
@@ -210,7 +207,7 @@ func TestRatingWorkbook(t *testing.T) {
 		for j, want := range []float64{r.Stage, r.Area, r.Discharge, r.Subs[1].Discharge} {
 			col := []int{0, 2, 7, 15}[j]
 			got, err := strconv.ParseFloat(rows[i+1][col], 64)
-			if err != nil || !near(got, want, sameValue) {
+			if err != nil || !wbNear(got, want, sameValue) {
 				t.Errorf("rating row %d col %d: %q, want %g", i+2, col+1, rows[i+1][col], want)
 			}
 		}
@@ -244,7 +241,7 @@ func TestRatingWorkbook(t *testing.T) {
 	}
 	last := coarse.Rows[len(coarse.Rows)-1]
 	lastRow := rows[len(rows)-1]
-	if got, _ := strconv.ParseFloat(lastRow[10], 64); lastRow[2] != "right overbank" || !near(got, last.Subs[len(last.Subs)-1].Discharge, sameValue) {
+	if got, _ := strconv.ParseFloat(lastRow[10], 64); lastRow[2] != "right overbank" || !wbNear(got, last.Subs[len(last.Subs)-1].Discharge, sameValue) {
 		t.Errorf("last subsection row %q", lastRow)
 	}
 
@@ -262,7 +259,7 @@ func TestRatingWorkbook(t *testing.T) {
 }
 
 func TestRatingWorkbookMinimal(t *testing.T) {
-	coarse, _ := tallow(t)
+	coarse, _ := wbTallow(t)
 	f := writeResults(t, survey.RatingWorkbook{Table: coarse})
 	if got, want := f.GetSheetList(), []string{"summary", "rating", "subsections"}; !slices.Equal(got, want) {
 		t.Errorf("sheets %v, want %v", got, want)
@@ -270,7 +267,7 @@ func TestRatingWorkbookMinimal(t *testing.T) {
 }
 
 func TestRatingWorkbookBadPicture(t *testing.T) {
-	coarse, _ := tallow(t)
+	coarse, _ := wbTallow(t)
 	err := survey.WriteRatingWorkbook(&bytes.Buffer{}, survey.RatingWorkbook{Table: coarse,
 		Pictures: []survey.Picture{{Name: "broken", PNG: []byte("GIF89a")}}})
 	if err == nil || !strings.Contains(err.Error(), `"broken"`) {
@@ -306,7 +303,7 @@ func readByStage(t *testing.T, path string) map[int64]float64 {
 // table rated at every hundredth and for the default (coarse) stages, and
 // compares the lookup sheet as displayed with a golden file.
 func TestLookupGolden(t *testing.T) {
-	coarse, fine := tallow(t)
+	coarse, fine := wbTallow(t)
 	dir := t.TempDir()
 	for _, tc := range []struct {
 		name  string
@@ -359,7 +356,7 @@ func TestLookupGolden(t *testing.T) {
 				}
 				if inFull {
 					checked++
-					if !near(got, want, tc.tol) {
+					if !wbNear(got, want, tc.tol) {
 						t.Errorf("%s: lookup %.2f = %g, rating sheet %g", tc.name, float64(k)/100, got, want)
 					}
 				}

@@ -34,31 +34,26 @@ const (
 
 // Sheet names of a field workbook besides the cross-sections.
 const (
-	SheetReach        = "reach"
-	SheetGaugings     = "gaugings"
-	SheetInstructions = "instructions"
+	FieldSheetReach        = "reach"
+	FieldSheetGaugings     = "gaugings"
+	FieldSheetInstructions = "instructions"
 )
 
 // SectionSheetName names the i-th (1-based) cross-section sheet: "XS-1".
 func SectionSheetName(i int) string { return fmt.Sprintf("XS-%d", i) }
 
-// Column names of the reach and gaugings tables (matched
-// case-insensitively, a bracketed unit after the name allowed). They are
-// the contract between the field workbook and the commands reading it.
-const (
-	ColSection   = "section"
-	ColSurvey    = "survey"
-	ColDistance  = "distance"
-	ColWSLeft    = "ws_left"
-	ColWSRight   = "ws_right"
-	ColQuality   = "quality"
-	ColTime      = "time"
-	ColStage     = "stage"
-	ColDischarge = "discharge"
+// Column names of the reach and gaugings sheets of a field workbook, in
+// order (matched case-insensitively, a bracketed unit after the name
+// allowed). They are the contract between the field workbook and the
+// commands reading it; add columns after them, never between.
+var (
+	FieldReachColumns   = []string{"section", "survey", "distance", "ws_left", "ws_right", "quality", "note"}
+	FieldGaugingColumns = []string{"time", "stage", "discharge", "quality", "note"}
 )
 
-// Qualities are the grades of a gauging or a high-water mark, best first.
-var Qualities = []string{"excellent", "good", "fair", "poor"}
+// FieldQualities are the grades of a gauging or a high-water mark, best
+// first.
+var FieldQualities = []string{"excellent", "good", "fair", "poor"}
 
 // SuggestedMarks are offered in the mark column's drop-down list. Only
 // MarkBank means anything to the reader; any other label may be typed and
@@ -108,17 +103,17 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 			return err
 		}
 	}
-	if err := fieldSheet(b, SheetReach, reachColumns(opt.Units), opt.Rows); err != nil {
+	if err := fieldSheet(b, FieldSheetReach, reachColumns(opt.Units), opt.Rows); err != nil {
 		return err
 	}
-	if err := fieldSheet(b, SheetGaugings, gaugingColumns(opt.Units), opt.Rows); err != nil {
+	if err := fieldSheet(b, FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows); err != nil {
 		return err
 	}
 	if err := instructionSheet(b, opt); err != nil {
 		return err
 	}
 	f := b.File()
-	idx, err := f.GetSheetIndex(SheetInstructions)
+	idx, err := f.GetSheetIndex(FieldSheetInstructions)
 	if err != nil {
 		return err
 	}
@@ -184,28 +179,28 @@ func reachColumns(u rating.Units) []templateColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
 	return []templateColumn{
-		{Column{Name: ColSection, Format: FormatText, Width: 12}, nil, "section id, e.g. XS-1"},
-		{Column{Name: ColSurvey, Format: FormatText, Width: 16}, nil, "sheet (or file) holding the section's survey"},
-		{Column{Name: ColDistance, Unit: L, Format: "0.0", Width: 14},
+		{Column{Name: FieldReachColumns[0], Format: FormatText, Width: 12}, nil, "section id, e.g. XS-1"},
+		{Column{Name: FieldReachColumns[1], Format: FormatText, Width: 16}, nil, "sheet (or file) holding the section's survey"},
+		{Column{Name: FieldReachColumns[2], Unit: L, Format: "0.0", Width: 14},
 			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
 			"distance downstream from the upstream-most section, along the channel"},
-		{Column{Name: ColWSLeft, Unit: L, Format: "0.000", Width: 14},
+		{Column{Name: FieldReachColumns[3], Unit: L, Format: "0.000", Width: 14},
 			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
 			"water-surface elevation from the high-water marks on the left bank"},
-		{Column{Name: ColWSRight, Unit: L, Format: "0.000", Width: 14},
+		{Column{Name: FieldReachColumns[4], Unit: L, Format: "0.000", Width: 14},
 			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
 			"water-surface elevation from the high-water marks on the right bank"},
-		{Column{Name: ColQuality, Format: FormatText, Width: 12},
-			listRule(Qualities, true, "quality: one of "+strings.Join(Qualities, ", ")),
+		{Column{Name: FieldReachColumns[5], Format: FormatText, Width: 12},
+			listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")),
 			"how well the marks define the water surface"},
-		{Column{Name: ColNote, Format: FormatText, Width: 36}, nil, ""},
+		{Column{Name: FieldReachColumns[6], Format: FormatText, Width: 36}, nil, ""},
 	}
 }
 
 func gaugingColumns(u rating.Units) []templateColumn {
 	L, Q := u.Length(), u.Discharge()
 	return []templateColumn{
-		{Column{Name: ColTime, Format: FormatDateTime, Width: 18},
+		{Column{Name: FieldGaugingColumns[0], Format: FormatDateTime, Width: 18},
 			func(dv *excelize.DataValidation) error {
 				if err := dv.SetRange(1, excelSerialMax, excelize.DataValidationTypeDate, excelize.DataValidationOperatorBetween); err != nil {
 					return err
@@ -215,18 +210,18 @@ func gaugingColumns(u rating.Units) []templateColumn {
 				return nil
 			},
 			"date and time of the mid-point of the measurement"},
-		{Column{Name: ColStage, Unit: L, Format: "0.000", Width: 12},
+		{Column{Name: FieldGaugingColumns[1], Unit: L, Format: "0.000", Width: 12},
 			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop,
 				fmt.Sprintf("a gauge height in %s, with a decimal point", L)),
 			"mean gauge height during the measurement"},
-		{Column{Name: ColDischarge, Unit: Q, Format: "0.000", Width: 17},
+		{Column{Name: FieldGaugingColumns[2], Unit: Q, Format: "0.000", Width: 17},
 			decimalRule(0, 1e8, excelize.DataValidationErrorStyleStop,
 				fmt.Sprintf("a discharge in %s, zero or more", Q)),
 			"measured discharge"},
-		{Column{Name: ColQuality, Format: FormatText, Width: 12},
-			listRule(Qualities, true, "quality: one of "+strings.Join(Qualities, ", ")),
+		{Column{Name: FieldGaugingColumns[3], Format: FormatText, Width: 12},
+			listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")),
 			"measurement grade"},
-		{Column{Name: ColNote, Format: FormatText, Width: 36}, nil, ""},
+		{Column{Name: FieldGaugingColumns[4], Format: FormatText, Width: 36}, nil, ""},
 	}
 }
 
@@ -312,15 +307,15 @@ func instructionSheet(b *Book, opt TemplateOptions) error {
 			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
 			"mark: 'bank' on exactly the two points that bound the main channel; other labels (thalweg, pin, water edge, ...) are kept as labels. " +
 			"Add sheets by copying one; the sheet name is the section's name."},
-		{SheetReach, "One row per section of a slope-area reach. section: its id; survey: the sheet (or file) with its survey; " +
+		{FieldSheetReach, "One row per section of a slope-area reach. section: its id; survey: the sheet (or file) with its survey; " +
 			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
-			"on each bank from the high-water marks; quality: " + strings.Join(Qualities, ", ") + "."},
-		{SheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
-			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(Qualities, ", ") + ")."},
+			"on each bank from the high-water marks; quality: " + strings.Join(FieldQualities, ", ") + "."},
+		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
+			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(FieldQualities, ", ") + ")."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
 		{"caution", Caution},
 	}
-	s, err := b.Table(SheetInstructions, []Column{{Name: "topic", Width: 18}, {Name: "what to enter", Width: 110}})
+	s, err := b.Table(FieldSheetInstructions, []Column{{Name: "topic", Width: 18}, {Name: "what to enter", Width: 110}})
 	if err != nil {
 		return err
 	}

@@ -277,7 +277,7 @@ func TestFilledTemplateReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ct, cs := tab.Column(survey.ColTime), tab.Column(survey.ColStage)
+	ct, cs := tab.Column(survey.FieldGaugingColumns[0]), tab.Column(survey.FieldGaugingColumns[1])
 	want := []time.Time{dt, time.Date(2026, 4, 2, 16, 45, 0, 0, time.UTC)}
 	for i, w := range want {
 		got, ok, err := tab.Time(tab.Records[i], ct)

@@ -45,6 +45,6 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	}
 	fmt.Fprintf(e.stderr, "wrote %s: sheets %s … %s (cross-sections), %s, %s and %s; units %s, %s\n",
 		*out, survey.SectionSheetName(1), survey.SectionSheetName(*sections),
-		survey.SheetReach, survey.SheetGaugings, survey.SheetInstructions, u.Length(), u.Discharge())
+		survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions, u.Length(), u.Discharge())
 	return nil
 }

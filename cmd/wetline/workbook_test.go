@@ -16,10 +16,10 @@ import (
 	"wetline/survey"
 )
 
-const tallowCSV = "../../testdata/tallow-xs1.csv"
+const wbTallowCSV = "../../testdata/tallow-xs1.csv"
 
 // runArgs runs the program with buffers and returns its output and error.
-func runArgs(t *testing.T, args ...string) (stdout, stderr string, err error) {
+func runWB(t *testing.T, args ...string) (stdout, stderr string, err error) {
 	t.Helper()
 	var o, e bytes.Buffer
 	err = run(context.Background(), &env{stdout: &o, stderr: &e}, args)
@@ -29,7 +29,7 @@ func runArgs(t *testing.T, args ...string) (stdout, stderr string, err error) {
 func TestTemplateCommand(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "field.xlsx")
-	_, stderr, err := runArgs(t, "template", "-o", out, "--sections", "2", "--units", "us")
+	_, stderr, err := runWB(t, "template", "-o", out, "--sections", "2", "--units", "us")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -52,7 +52,7 @@ func TestTemplateCommand(t *testing.T) {
 		{"template", "-o", out, "--units", "furlongs"},
 		{"template", "-o", out, "extra"},
 	} {
-		_, _, err := runArgs(t, args...)
+		_, _, err := runWB(t, args...)
 		var ue usageError
 		if !errors.As(err, &ue) {
 			t.Errorf("%q: %v, want a usage error", args, err)
@@ -113,16 +113,16 @@ func fillFromCSV(t *testing.T, path, sheet, csvPath string) {
 func TestFilledTemplateRoundTrip(t *testing.T) {
 	dir := t.TempDir()
 	field := filepath.Join(dir, "field.xlsx")
-	if _, _, err := runArgs(t, "template", "-o", field); err != nil {
+	if _, _, err := runWB(t, "template", "-o", field); err != nil {
 		t.Fatal(err)
 	}
-	fillFromCSV(t, field, "XS-2", tallowCSV)
+	fillFromCSV(t, field, "XS-2", wbTallowCSV)
 
-	fromCSV, _, err := runArgs(t, "rate", tallowCSV, "--slope", "0.0012")
+	fromCSV, _, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012")
 	if err != nil {
 		t.Fatal(err)
 	}
-	fromBook, _, err := runArgs(t, "rate", field, "--sheet", "XS-2", "--slope", "0.0012")
+	fromBook, _, err := runWB(t, "rate", field, "--sheet", "XS-2", "--slope", "0.0012")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -132,25 +132,25 @@ func TestFilledTemplateRoundTrip(t *testing.T) {
 
 	// The same through results workbooks: identical rating sheets.
 	outCSV, outBook := filepath.Join(dir, "a.xlsx"), filepath.Join(dir, "b.xlsx")
-	if _, _, err := runArgs(t, "rate", tallowCSV, "--slope", "0.0012", "-o", outCSV); err != nil {
+	if _, _, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "-o", outCSV); err != nil {
 		t.Fatal(err)
 	}
-	if _, _, err := runArgs(t, "rate", field, "--sheet", "XS-2", "--slope", "0.0012", "--format", "xlsx", "-o", outBook); err != nil {
+	if _, _, err := runWB(t, "rate", field, "--sheet", "XS-2", "--slope", "0.0012", "--format", "xlsx", "-o", outBook); err != nil {
 		t.Fatal(err)
 	}
 	for _, sheet := range []string{"rating", "lookup", "subsections"} {
-		a, b := sheetRows(t, outCSV, sheet), sheetRows(t, outBook, sheet)
+		a, b := wbSheetRows(t, outCSV, sheet), wbSheetRows(t, outBook, sheet)
 		if !slices.EqualFunc(a, b, slices.Equal) {
 			t.Errorf("sheet %s differs between the CSV and the workbook input", sheet)
 		}
 	}
 	// The summary names the sheet read.
-	if s := sheetRows(t, outBook, "summary"); !strings.Contains(strings.Join(s[2], " "), "field.xlsx ['XS-2']") {
+	if s := wbSheetRows(t, outBook, "summary"); !strings.Contains(strings.Join(s[2], " "), "field.xlsx ['XS-2']") {
 		t.Errorf("summary source %q", s[2])
 	}
 }
 
-func sheetRows(t *testing.T, path, sheet string) [][]string {
+func wbSheetRows(t *testing.T, path, sheet string) [][]string {
 	t.Helper()
 	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true})
 	if err != nil {
@@ -169,10 +169,10 @@ func sheetRows(t *testing.T, path, sheet string) [][]string {
 func TestRateWorkbookErrors(t *testing.T) {
 	dir := t.TempDir()
 	field := filepath.Join(dir, "field.xlsx")
-	if _, _, err := runArgs(t, "template", "-o", field); err != nil {
+	if _, _, err := runWB(t, "template", "-o", field); err != nil {
 		t.Fatal(err)
 	}
-	fillFromCSV(t, field, "XS-2", tallowCSV)
+	fillFromCSV(t, field, "XS-2", wbTallowCSV)
 	f, err := excelize.OpenFile(field)
 	if err != nil {
 		t.Fatal(err)
@@ -185,7 +185,7 @@ func TestRateWorkbookErrors(t *testing.T) {
 	}
 	f.Close()
 	out := filepath.Join(dir, "r.xlsx")
-	_, _, err = runArgs(t, "rate", field, "--sheet", "XS-2", "--slope", "0.001", "-o", out)
+	_, _, err = runWB(t, "rate", field, "--sheet", "XS-2", "--slope", "0.001", "-o", out)
 	if err == nil || !strings.Contains(err.Error(), field+`['XS-2']!C14: n "0.O35": not a number`) {
 		t.Errorf("error %v, want one naming 'XS-2'!C14", err)
 	}
@@ -197,7 +197,7 @@ func TestRateWorkbookErrors(t *testing.T) {
 		t.Errorf("exit status %d, want 1", st)
 	}
 
-	_, _, err = runArgs(t, "rate", tallowCSV, "--slope", "0.001", "--format", "xlsx")
+	_, _, err = runWB(t, "rate", wbTallowCSV, "--slope", "0.001", "--format", "xlsx")
 	var ue usageError
 	if !errors.As(err, &ue) {
 		t.Errorf("xlsx to standard output: %v, want a usage error", err)
@@ -206,14 +206,14 @@ func TestRateWorkbookErrors(t *testing.T) {
 
 func TestRateWorkbookSummary(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "results.xlsx")
-	_, stderr, err := runArgs(t, "rate", tallowCSV, "--slope", "0.0012", "--n", "0.05,0.035,0.07", "-o", out)
+	_, stderr, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "--n", "0.05,0.035,0.07", "-o", out)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(stderr, "wrote "+out) || !strings.Contains(stderr, survey.Caution) {
 		t.Errorf("console summary %q", stderr)
 	}
-	rows := sheetRows(t, out, "summary")
+	rows := wbSheetRows(t, out, "summary")
 	text := ""
 	for _, r := range rows {
 		text += strings.Join(r, "|") + "\n"
@@ -235,14 +235,14 @@ func TestRateWorkbookSummary(t *testing.T) {
 
 func TestDemoWritesWorkbook(t *testing.T) {
 	dir := t.TempDir()
-	stdout, _, err := runArgs(t, "demo", "-o", dir)
+	stdout, _, err := runWB(t, "demo", "-o", dir)
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !strings.Contains(stdout, "tallow-xs1-results.xlsx") {
 		t.Errorf("demo output %q", stdout)
 	}
-	rows := sheetRows(t, filepath.Join(dir, "tallow-xs1-results.xlsx"), "lookup")
+	rows := wbSheetRows(t, filepath.Join(dir, "tallow-xs1-results.xlsx"), "lookup")
 	if len(rows) < 40 {
 		t.Errorf("demo lookup sheet has %d rows", len(rows))
 	}
