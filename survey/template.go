@@ -20,8 +20,14 @@ type TemplateOptions struct {
 	// Units names the units in the headers and instructions.
 	Units rating.Units
 	// Rows is the number of rows below each header that carry validation
-	// rules (0 = DefaultTemplateRows).
+	// rules (0 = DefaultTemplateRows); a prefilled sheet gets at least as
+	// many as it has points.
 	Rows int
+	// Surveys prefill the first cross-section sheets, one survey each
+	// (points, n, bank marks, labels, notes), for a crew to check or
+	// re-survey. A sheet is named after its section when that is a usable
+	// sheet name, else XS-i. There are max(Sections, len(Surveys)) sheets.
+	Surveys []Survey
 }
 
 // Template defaults and bounds.
@@ -90,6 +96,7 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if opt.Rows == 0 {
 		opt.Rows = DefaultTemplateRows
 	}
+	opt.Sections = max(opt.Sections, len(opt.Surveys))
 	if opt.Sections < 1 || opt.Sections > MaxTemplateSections {
 		return fmt.Errorf("template: %d cross-sections: want 1 to %d", opt.Sections, MaxTemplateSections)
 	}
@@ -98,18 +105,23 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	}
 	b := NewBook()
 	defer b.Close()
-	for i := 1; i <= opt.Sections; i++ {
-		if err := fieldSheet(b, SectionSheetName(i), sectionColumns(opt.Units), opt.Rows); err != nil {
+	names := sectionSheetNames(opt)
+	for i, name := range names {
+		var data [][]any
+		if i < len(opt.Surveys) {
+			data = surveyRows(opt.Surveys[i])
+		}
+		if err := fieldSheet(b, name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
 			return err
 		}
 	}
-	if err := fieldSheet(b, FieldSheetReach, reachColumns(opt.Units), opt.Rows); err != nil {
+	if err := fieldSheet(b, FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	if err := fieldSheet(b, FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows); err != nil {
+	if err := fieldSheet(b, FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	if err := instructionSheet(b, opt); err != nil {
+	if err := instructionSheet(b, opt, names); err != nil {
 		return err
 	}
 	f := b.File()
@@ -126,6 +138,75 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 		return err
 	}
 	return b.Write(w)
+}
+
+// sectionSheetNames names the cross-section sheets: a prefilled sheet
+// after its section when possible, others XS-i; all distinct.
+func sectionSheetNames(opt TemplateOptions) []string {
+	used := map[string]bool{
+		strings.ToLower(FieldSheetReach): true, strings.ToLower(FieldSheetGaugings): true,
+		strings.ToLower(FieldSheetInstructions): true,
+	}
+	names := make([]string, opt.Sections)
+	for i := range names {
+		if i < len(opt.Surveys) {
+			if n := opt.Surveys[i].Section.Name; usableSheetName(n) && !used[strings.ToLower(n)] {
+				names[i] = n
+				used[strings.ToLower(n)] = true
+			}
+		}
+	}
+	k := 1
+	for i := range names {
+		for names[i] == "" {
+			if n := SectionSheetName(k); !used[strings.ToLower(n)] {
+				names[i] = n
+				used[strings.ToLower(n)] = true
+			}
+			k++
+		}
+	}
+	return names
+}
+
+// usableSheetName reports whether s can name a sheet: 1 to 31 characters,
+// none of : \ / ? * [ ], not starting or ending with an apostrophe.
+func usableSheetName(s string) bool {
+	n := len([]rune(s))
+	return n > 0 && n <= 31 && !strings.ContainsAny(s, ":\\/?*[]") &&
+		!strings.HasPrefix(s, "'") && !strings.HasSuffix(s, "'")
+}
+
+// surveyRows lays out a survey as rows of a cross-section sheet: station,
+// elevation, n of the segment to the next point (blank on the last),
+// mark (bank on the first point at each bank station, else the label)
+// and note.
+func surveyRows(sv Survey) [][]any {
+	sec := sv.Section
+	rows := make([][]any, len(sec.Points))
+	leftDone, rightDone := false, false
+	for i, p := range sec.Points {
+		var n any
+		if i < len(sec.N) {
+			n = sec.N[i]
+		}
+		mark := ""
+		if i < len(sv.Labels) {
+			mark = sv.Labels[i]
+		}
+		switch {
+		case sec.HasBanks && !leftDone && p.Station == sec.LeftBank:
+			mark, leftDone = MarkBank, true
+		case sec.HasBanks && !rightDone && p.Station == sec.RightBank:
+			mark, rightDone = MarkBank, true
+		}
+		note := ""
+		if i < len(sv.Notes) {
+			note = sv.Notes[i]
+		}
+		rows[i] = []any{p.Station, p.Elevation, n, mark, note}
+	}
+	return rows
 }
 
 func decimalRule(lo, hi float64, style excelize.DataValidationErrorStyle, msg string) func(*excelize.DataValidation) error {
@@ -238,10 +319,10 @@ func (b *Book) InputStyle(format string) (int, error) {
 	})
 }
 
-// fieldSheet writes a blank sheet with a styled, frozen header in row 1,
-// input-coloured columns and a validation rule per column on rows
-// 2 … rows+1.
-func fieldSheet(b *Book, name string, cols []templateColumn, rows int) error {
+// fieldSheet writes a sheet with a styled, frozen header in row 1,
+// input-coloured columns, a validation rule per column on rows
+// 2 … rows+1, and data (if any) from row 2.
+func fieldSheet(b *Book, name string, cols []templateColumn, rows int, data [][]any) error {
 	if err := b.NewSheet(name); err != nil {
 		return err
 	}
@@ -286,6 +367,11 @@ func fieldSheet(b *Book, name string, cols []templateColumn, rows int) error {
 			return err
 		}
 	}
+	for i, r := range data {
+		if err := f.SetSheetRow(name, "A"+strconv.Itoa(i+2), &r); err != nil {
+			return err
+		}
+	}
 	if err := f.SetRowHeight(name, 1, 30); err != nil {
 		return err
 	}
@@ -293,16 +379,15 @@ func fieldSheet(b *Book, name string, cols []templateColumn, rows int) error {
 }
 
 // instructionSheet writes the instructions: what goes where, in which units.
-func instructionSheet(b *Book, opt TemplateOptions) error {
+func instructionSheet(b *Book, opt TemplateOptions, names []string) error {
 	u := opt.Units
 	L, Q := u.Length(), u.Discharge()
-	last := SectionSheetName(opt.Sections)
 	lines := [][2]string{
 		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet, the reach and its high-water marks, and discharge measurements. " +
 			"Fill the cream cells; keep the header row (row 1) as it is. Blank rows are skipped; extra columns to the right are kept but not read."},
 		{"units", fmt.Sprintf("Lengths, stations and elevations in %s; discharge in %s; Manning's n as usual (the same number in every unit system). "+
 			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: say which in a note.", L, Q)},
-		{"XS-1 … " + last, "One sheet per cross-section, points from the left end to the right end looking downstream. " +
+		{strings.Join(names, ", "), "One sheet per cross-section, points from the left end to the right end looking downstream. " +
 			"station: distance from the left pin; it never decreases (no overhangs). elevation: ground elevation. " +
 			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
 			"mark: 'bank' on exactly the two points that bound the main channel; other labels (thalweg, pin, water edge, ...) are kept as labels. " +

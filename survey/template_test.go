@@ -374,3 +374,40 @@ func TestTableTime(t *testing.T) {
 		}
 	}
 }
+
+// TestTemplatePrefilled writes the demo survey (invented data) into a
+// field workbook and reads it back: the same points, n, banks, labels and
+// notes.
+func TestTemplatePrefilled(t *testing.T) {
+	orig, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	odd := orig
+	odd.Section.Name = "bad/name"
+	path := writeTemplate(t, survey.TemplateOptions{Surveys: []survey.Survey{orig, odd, orig}, Sections: 4, Rows: 10})
+	f := openBook(t, path)
+	if got, want := f.GetSheetList(), []string{"tallow-xs1", "XS-1", "XS-2", "XS-3", "reach", "gaugings", "instructions"}; !slices.Equal(got, want) {
+		t.Fatalf("sheets %v, want %v", got, want)
+	}
+	for _, sheet := range []string{"tallow-xs1", "XS-1", "XS-2"} {
+		got, err := survey.ReadSection(path, sheet, survey.SectionOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b := got.Section, orig.Section
+		if !slices.Equal(a.Points, b.Points) || !slices.Equal(a.N, b.N) || a.HasBanks != b.HasBanks ||
+			a.LeftBank != b.LeftBank || a.RightBank != b.RightBank ||
+			!slices.Equal(got.Labels, orig.Labels) || !slices.Equal(got.Notes, orig.Notes) {
+			t.Errorf("%s: read back %+v, want %+v", sheet, got, orig)
+		}
+	}
+	// Validation rules cover every prefilled row even when Rows is smaller.
+	dvs, err := f.GetDataValidations("tallow-xs1")
+	if err != nil || len(dvs) == 0 || dvs[0].Sqref != "A2:A"+strconv.Itoa(len(orig.Section.Points)+1) {
+		t.Errorf("rules %v %v", dvs, err)
+	}
+	if _, err := survey.ReadSection(path, "XS-3", survey.SectionOptions{}); !errors.Is(err, survey.ErrTooFew) {
+		t.Errorf("XS-3 should be blank: %v", err)
+	}
+}

@@ -41,16 +41,30 @@ func ratingBook(l *loaded, t rating.Table, warnings []string) (survey.RatingWork
 	return rw, warnings, nil
 }
 
-// demoWorkbook writes the gauge section's results workbook.
+// demoWorkbook writes the gauge section's survey into a field workbook,
+// rates the section read back from that workbook, and writes the results
+// workbook.
 func demoWorkbook(ctx context.Context, e *env, dir string) error {
-	path := filepath.Join(dir, demoSurvey)
-	if _, err := os.Stat(path); err != nil {
-		if path, err = copyDemoFile(e, dir, demoSurvey, "surveyed cross-section at the gauge"); err != nil {
+	csvPath := filepath.Join(dir, demoSurvey)
+	if _, err := os.Stat(csvPath); err != nil {
+		if csvPath, err = copyDemoFile(e, dir, demoSurvey, "surveyed cross-section at the gauge"); err != nil {
 			return err
 		}
 	}
-	sf := sectionFlags{units: "si"}
-	l, err := sf.load(path)
+	sv, err := survey.ReadSection(csvPath, "", survey.SectionOptions{})
+	if err != nil {
+		return err
+	}
+	const fieldName, resultsName = "tallow-field.xlsx", "tallow-xs1-results.xlsx"
+	field := filepath.Join(dir, fieldName)
+	if err := survey.WriteFile(field, []string{csvPath}, func(w io.Writer) error {
+		return survey.WriteTemplate(w, survey.TemplateOptions{Surveys: []survey.Survey{sv}})
+	}); err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stdout, "  %-28s %s\n", fieldName, "field workbook: the survey on sheet "+sv.Section.Name+", blank sheets, reach, gaugings")
+	sf := sectionFlags{units: "si", sheet: sv.Section.Name}
+	l, err := sf.load(field)
 	if err != nil {
 		return err
 	}
@@ -63,12 +77,11 @@ func demoWorkbook(ctx context.Context, e *env, dir string) error {
 	if err != nil {
 		return err
 	}
-	const name = "tallow-xs1-results.xlsx"
-	if err := survey.WriteFile(filepath.Join(dir, name), []string{path}, func(w io.Writer) error {
+	if err := survey.WriteFile(filepath.Join(dir, resultsName), l.inputs, func(w io.Writer) error {
 		return survey.WriteRatingWorkbook(w, rw)
 	}); err != nil {
 		return err
 	}
-	fmt.Fprintf(e.stdout, "  %-28s %s\n", name, "results workbook: summary, rating, lookup by hundredths, subsections")
+	fmt.Fprintf(e.stdout, "  %-28s %s\n", resultsName, "results workbook (rated from the field workbook): summary, rating, lookup by hundredths, subsections")
 	return nil
 }

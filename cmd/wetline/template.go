@@ -9,7 +9,7 @@ import (
 	"wetline/survey"
 )
 
-const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us]"
+const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us] [--survey SURVEY ...]"
 
 // runTemplate writes a blank field workbook for a survey crew.
 func runTemplate(ctx context.Context, e *env, args []string) error {
@@ -20,6 +20,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	rows := fs.Int("rows", survey.DefaultTemplateRows,
 		fmt.Sprintf("rows per sheet that carry validation rules (1 to %d)", survey.MaxTemplateRows))
 	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s)")
+	surveys := fs.StringArray("survey", nil, "prefill a cross-section sheet from this survey (CSV, or a workbook's first sheet); repeatable")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
@@ -40,11 +41,21 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		return usageError{err}
 	}
 	opt := survey.TemplateOptions{Sections: *sections, Rows: *rows, Units: u}
-	if err := survey.WriteFile(*out, nil, func(w io.Writer) error { return survey.WriteTemplate(w, opt) }); err != nil {
+	for _, path := range *surveys {
+		sv, err := survey.ReadSection(path, "", survey.SectionOptions{})
+		if err != nil {
+			return err
+		}
+		opt.Surveys = append(opt.Surveys, sv)
+	}
+	if len(opt.Surveys) > survey.MaxTemplateSections {
+		return usagef("template: %d surveys: at most %d", len(opt.Surveys), survey.MaxTemplateSections)
+	}
+	if err := survey.WriteFile(*out, *surveys, func(w io.Writer) error { return survey.WriteTemplate(w, opt) }); err != nil {
 		return err
 	}
-	fmt.Fprintf(e.stderr, "wrote %s: sheets %s … %s (cross-sections), %s, %s and %s; units %s, %s\n",
-		*out, survey.SectionSheetName(1), survey.SectionSheetName(*sections),
+	fmt.Fprintf(e.stderr, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s and %s; units %s, %s\n",
+		*out, max(*sections, len(opt.Surveys)), len(opt.Surveys),
 		survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions, u.Length(), u.Discharge())
 	return nil
 }

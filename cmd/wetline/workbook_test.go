@@ -33,7 +33,7 @@ func TestTemplateCommand(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(stderr, "XS-1 … XS-2") || !strings.Contains(stderr, "ft3/s") {
+	if !strings.Contains(stderr, "2 cross-section sheets") || !strings.Contains(stderr, "ft3/s") {
 		t.Errorf("summary %q", stderr)
 	}
 	f, err := excelize.OpenFile(out)
@@ -128,6 +128,19 @@ func TestFilledTemplateRoundTrip(t *testing.T) {
 	}
 	if fromCSV != fromBook || len(fromCSV) < 1000 {
 		t.Errorf("rating from the workbook differs from the CSV's:\n%s\nvs\n%s", fromBook, fromCSV)
+	}
+
+	// A template prefilled from the CSV rates the same too.
+	pre := filepath.Join(dir, "prefilled.xlsx")
+	if _, _, err := runWB(t, "template", "-o", pre, "--survey", wbTallowCSV); err != nil {
+		t.Fatal(err)
+	}
+	fromPre, _, err := runWB(t, "rate", pre, "--sheet", "tallow-xs1", "--slope", "0.0012")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if fromPre != fromCSV {
+		t.Errorf("rating from the prefilled workbook differs from the CSV's")
 	}
 
 	// The same through results workbooks: identical rating sheets.
@@ -241,6 +254,9 @@ func TestDemoWritesWorkbook(t *testing.T) {
 	}
 	if !strings.Contains(stdout, "tallow-xs1-results.xlsx") {
 		t.Errorf("demo output %q", stdout)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "tallow-field.xlsx")); err != nil {
+		t.Error(err)
 	}
 	rows := wbSheetRows(t, filepath.Join(dir, "tallow-xs1-results.xlsx"), "lookup")
 	if len(rows) < 40 {
