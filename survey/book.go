@@ -183,6 +183,22 @@ func (b *Book) style(key string, build func() *excelize.Style) (int, error) {
 	return id, nil
 }
 
+// printSetup makes a sheet print one page wide, as many pages tall as
+// needed, with the header row repeated on every page. It must run before
+// the sheet's stream writer is created.
+func (b *Book) printSetup(sheet string) error {
+	fit, one, zero := true, 1, 0
+	if err := b.f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
+		return err
+	}
+	if err := b.f.SetPageLayout(sheet, &excelize.PageLayoutOptions{FitToWidth: &one, FitToHeight: &zero}); err != nil {
+		return err
+	}
+	return b.f.SetDefinedName(&excelize.DefinedName{
+		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("'%s'!$1:$1", sheet), Scope: sheet,
+	})
+}
+
 // SheetWriter streams the rows of one table sheet. Its header row is
 // styled and frozen; column widths and number formats come from the
 // Columns.
@@ -210,13 +226,20 @@ func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
 	if err := b.NewSheet(name); err != nil {
 		return nil, err
 	}
+	if err := b.printSetup(name); err != nil {
+		return nil, err
+	}
 	sw, err := b.f.NewStreamWriter(name)
 	if err != nil {
 		return nil, err
 	}
 	s := &SheetWriter{b: b, name: name, cols: cols, sw: sw, styles: make([]int, len(cols)), row: 1,
 		buf: make([]any, len(cols)), cells: make([]excelize.Cell, len(cols))}
-	for i, c := range cols {
+	// The stream writer writes <col> elements in the order its list holds
+	// them and each width goes to the front of that list; spreadsheet
+	// programs want them ascending, so set the widths last column first.
+	for i := len(cols) - 1; i >= 0; i-- {
+		c := cols[i]
 		w := c.Width
 		if w == 0 {
 			w = max(float64(len([]rune(c.Header())))+2, MinColumnWidth)
@@ -224,6 +247,8 @@ func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
 		if err := sw.SetColWidth(i+1, i+1, w); err != nil {
 			return nil, err
 		}
+	}
+	for i, c := range cols {
 		if c.Format == FormatSig3 {
 			s.styles[i] = -1
 			continue

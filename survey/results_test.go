@@ -1,6 +1,7 @@
 package survey_test
 
 import (
+	"archive/zip"
 	"bytes"
 	"fmt"
 	"image"
@@ -10,6 +11,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -230,6 +232,22 @@ func TestRatingWorkbook(t *testing.T) {
 	if panes, _ := f.GetPanes("rating"); !panes.Freeze || panes.YSplit != 1 {
 		t.Errorf("rating header not frozen")
 	}
+	// Printing: one page wide, the header repeated on every page.
+	for _, sheet := range []string{"rating", "lookup", "subsections"} {
+		pl, err := f.GetPageLayout(sheet)
+		if err != nil || pl.FitToWidth == nil || *pl.FitToWidth != 1 {
+			t.Errorf("%s: page layout %+v %v, want one page wide", sheet, pl, err)
+		}
+		titles := false
+		for _, dn := range f.GetDefinedName() {
+			if dn.Name == "_xlnm.Print_Titles" && dn.Scope == sheet && strings.HasSuffix(dn.RefersTo, "!$1:$1") {
+				titles = true
+			}
+		}
+		if !titles {
+			t.Errorf("%s: no print titles", sheet)
+		}
+	}
 
 	// Subsections: one row per stage and subsection.
 	rows, err = f.GetRows("subsections")
@@ -383,5 +401,51 @@ func TestLookupGolden(t *testing.T) {
 		if shown.String() != string(want) {
 			t.Errorf("lookup sheet differs from %s (run go test -update to accept):\n%s", golden, shown.String())
 		}
+	}
+}
+
+// TestStreamedColumnsAscending checks the <col> elements of every sheet
+// of a results workbook come in ascending order, as ECMA-376 Part 1,
+// 18.3.1.13 lays them out, so that spreadsheet programs need no repair.
+func TestStreamedColumnsAscending(t *testing.T) {
+	coarse, fine := wbTallow(t)
+	var buf bytes.Buffer
+	if err := survey.WriteRatingWorkbook(&buf, survey.RatingWorkbook{Table: coarse, Lookup: fine}); err != nil {
+		t.Fatal(err)
+	}
+	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	colMin := regexp.MustCompile(`<col min="(\d+)"`)
+	sheets := 0
+	for _, zf := range zr.File {
+		if !strings.HasPrefix(zf.Name, "xl/worksheets/sheet") {
+			continue
+		}
+		sheets++
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		data, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		last := 0
+		for _, m := range colMin.FindAllSubmatch(data, -1) {
+			n, _ := strconv.Atoi(string(m[1]))
+			if n <= last {
+				t.Errorf("%s: column %d after %d", zf.Name, n, last)
+			}
+			last = n
+		}
+		if last == 0 {
+			t.Errorf("%s: no column widths", zf.Name)
+		}
+	}
+	if sheets != 4 {
+		t.Errorf("%d sheets", sheets)
 	}
 }

@@ -372,6 +372,9 @@ func fieldSheet(b *Book, name string, cols []templateColumn, rows int, data [][]
 			return err
 		}
 	}
+	if err := b.printSetup(name); err != nil {
+		return err
+	}
 	if err := f.SetRowHeight(name, 1, 30); err != nil {
 		return err
 	}
