@@ -259,11 +259,20 @@ var SummaryColumns = []Column{
 	{Name: "unit", Width: 10},
 }
 
-// writeSummary writes the summary sheet of a results workbook.
-func writeSummary(b *Book, rw RatingWorkbook) error {
-	t := rw.Table
-	u := t.Units
-	s, err := b.Table(SheetSummary, SummaryColumns)
+// SummaryItem is one row of a summary sheet. Value is a string, a number
+// (shown as written; a Styled value keeps its own format) or nil.
+type SummaryItem struct {
+	Item  string
+	Value any
+	Unit  string
+}
+
+// WriteSummarySheet writes a summary sheet (SummaryColumns): the items in
+// order, then one row per warning ("warnings: none" when there are none),
+// then the caution (Caution), which every report carries. Items whose
+// value is "" or nil are left out.
+func WriteSummarySheet(b *Book, name string, items []SummaryItem, warnings []string) error {
+	s, err := b.Table(name, SummaryColumns)
 	if err != nil {
 		return err
 	}
@@ -275,19 +284,53 @@ func writeSummary(b *Book, rw RatingWorkbook) error {
 	if err != nil {
 		return err
 	}
-	row := func(item string, value any, unit string) error {
-		return s.Row(labelCell(ls, item), wrapCell(ws, value), unit)
+	row := func(it SummaryItem) error {
+		if it.Value == nil || it.Value == "" {
+			return nil
+		}
+		v := it.Value
+		if str, ok := v.(string); ok {
+			v = Styled{ws, str}
+		}
+		return s.Row(Styled{ls, it.Item}, v, it.Unit)
 	}
+	for _, it := range items {
+		if err := row(it); err != nil {
+			return err
+		}
+	}
+	if len(warnings) == 0 {
+		if err := row(SummaryItem{"warnings", "none", ""}); err != nil {
+			return err
+		}
+	}
+	for _, w := range warnings {
+		if err := row(SummaryItem{"warning", w, ""}); err != nil {
+			return err
+		}
+	}
+	if err := row(SummaryItem{"caution", Caution, ""}); err != nil {
+		return err
+	}
+	return s.Flush()
+}
+
+// Sig3 returns v styled to show three significant figures (FormatSig3),
+// for a single cell such as a summary value.
+func (b *Book) Sig3(v float64) (Styled, error) {
+	id, err := b.Style(decimalsFormat(Sig3Decimals(v)))
+	return Styled{id, v}, err
+}
+
+// writeSummary writes the summary sheet of a results workbook.
+func writeSummary(b *Book, rw RatingWorkbook) error {
+	t := rw.Table
+	u := t.Units
 	version := rw.Version
 	if version == "" {
 		version = "unknown"
 	}
-	type item struct {
-		item  string
-		value any
-		unit  string
-	}
-	items := []item{
+	items := []SummaryItem{
 		{"section", t.Name, ""},
 		{"survey", rw.Source, ""},
 		{"program", "wetline " + version, ""},
@@ -298,22 +341,12 @@ func writeSummary(b *Book, rw RatingWorkbook) error {
 		{"lower end of the section", t.Top, u.Length()},
 	}
 	if l, r, ok := banks(t.Subsections); ok {
-		items = append(items, item{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
+		items = append(items, SummaryItem{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
 	} else {
-		items = append(items, item{"main channel between banks", "no banks: the whole section is channel", ""})
-	}
-	for _, it := range items {
-		if it.value == "" {
-			continue
-		}
-		if err := row(it.item, it.value, it.unit); err != nil {
-			return err
-		}
+		items = append(items, SummaryItem{"main channel between banks", "no banks: the whole section is channel", ""})
 	}
 	for i, sub := range t.Subsections {
-		if err := row(fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""); err != nil {
-			return err
-		}
+		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""})
 	}
 	if n := len(t.Rows); n > 0 {
 		lo, hi := t.Rows[0], t.Rows[0]
@@ -325,36 +358,18 @@ func writeSummary(b *Book, rw RatingWorkbook) error {
 				hi = r
 			}
 		}
-		if err := row("stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()); err != nil {
-			return err
-		}
-		qs, err := b.Style(decimalsFormat(Sig3Decimals(hi.Discharge)))
+		q, err := b.Sig3(hi.Discharge)
 		if err != nil {
 			return err
 		}
-		if err := row("discharge at the highest stage", Styled{qs, hi.Discharge}, u.Discharge()); err != nil {
-			return err
-		}
+		items = append(items,
+			SummaryItem{"stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()},
+			SummaryItem{"discharge at the highest stage", q, u.Discharge()})
 	}
 	if len(rw.Lookup.Rows) > 0 {
-		if err := row("lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""); err != nil {
-			return err
-		}
+		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
 	}
-	if len(rw.Warnings) == 0 {
-		if err := row("warnings", "none", ""); err != nil {
-			return err
-		}
-	}
-	for _, w := range rw.Warnings {
-		if err := row("warning", w, ""); err != nil {
-			return err
-		}
-	}
-	if err := row("caution", Caution, ""); err != nil {
-		return err
-	}
-	return s.Flush()
+	return WriteSummarySheet(b, SheetSummary, items, rw.Warnings)
 }
 
 // banks returns the main-channel limits implied by a subsection layout:
@@ -370,13 +385,4 @@ func banks(subs []subdivide.Subsection) (left, right float64, ok bool) {
 		}
 	}
 	return left, right, over && left < right
-}
-
-func labelCell(style int, s string) any { return Styled{style, s} }
-
-func wrapCell(style int, v any) any {
-	if _, ok := v.(string); !ok {
-		return v
-	}
-	return Styled{style, v}
 }
