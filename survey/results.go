@@ -43,10 +43,6 @@ const MaxLookupStages = 200_000
 // ErrLookupRange is returned by LookupStages for a range too long to print.
 var ErrLookupRange = errors.New("stage range too long for a lookup table")
 
-// LookupStep is the stage step of a lookup table: a hundredth of the unit
-// of length (0.01 m or 0.01 ft).
-const LookupStep = 0.01
-
 // LookupStages returns the stages of a lookup table from bottom to top:
 // every hundredth of a unit, k/100 for integer k, starting at the tenth at
 // or below bottom (stages below the ground are dry: zero discharge) and
