@@ -16,6 +16,7 @@ const (
 	SheetRating      = "rating"
 	SheetLookup      = "lookup"
 	SheetSubsections = "subsections"
+	SheetSurvey      = "survey"
 	SheetPlots       = "plots"
 )
 
@@ -33,6 +34,10 @@ type RatingWorkbook struct {
 	Version string
 	// Warnings are shown on the summary sheet.
 	Warnings []string
+	// Survey is the survey as read (no points: no survey sheet). Its
+	// sheet has the columns of a field workbook's cross-section sheet, so
+	// ReadSection can read it back from the results workbook.
+	Survey Survey
 	// Pictures are embedded on a plots sheet (none: no sheet).
 	Pictures []Picture
 }
@@ -89,6 +94,8 @@ func hundredths(h float64) (int64, bool) {
 //     computed (above the section's top) is blank;
 //   - subsections: per stage and subsection, its n, area, wetted
 //     perimeter, top width, conveyance, discharge and velocity;
+//   - survey: the ground points as read (station, elevation, n, mark,
+//     note), when given;
 //   - plots: the pictures, when given.
 //
 // Every table sheet is streamed, so memory stays bounded for any number of
@@ -109,6 +116,11 @@ func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
 	}
 	if err := WriteSubsectionSheet(b, SheetSubsections, rw.Table); err != nil {
 		return err
+	}
+	if len(rw.Survey.Section.Points) > 0 {
+		if err := WriteSurveySheet(b, SheetSurvey, rw.Survey, rw.Table.Units); err != nil {
+			return err
+		}
 	}
 	if len(rw.Pictures) > 0 {
 		if err := b.Pictures(SheetPlots, rw.Pictures); err != nil {
@@ -243,6 +255,27 @@ func WriteSubsectionSheet(b *Book, name string, t rating.Table) error {
 				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
 				return err
 			}
+		}
+	}
+	return s.Flush()
+}
+
+// WriteSurveySheet writes a survey as a table sheet with the columns of a
+// field workbook's cross-section sheet (see WriteTemplate), readable by
+// ReadSection.
+func WriteSurveySheet(b *Book, name string, sv Survey, u rating.Units) error {
+	cols := sectionColumns(u)
+	out := make([]Column, len(cols))
+	for i, c := range cols {
+		out[i] = c.Column
+	}
+	s, err := b.Table(name, out)
+	if err != nil {
+		return err
+	}
+	for _, r := range surveyRows(sv) {
+		if err := s.Row(r...); err != nil {
+			return err
 		}
 	}
 	return s.Flush()

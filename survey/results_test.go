@@ -157,12 +157,16 @@ func numFmt(t *testing.T, f *excelize.File, sheet, cell string) string {
 
 func TestRatingWorkbook(t *testing.T) {
 	coarse, fine := wbTallow(t)
+	sv, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
 	pics := []survey.Picture{{Name: "rating curve", PNG: wbPNG(1600, 1000)}, {Name: "section", PNG: wbPNG(200, 100)}}
 	f := writeResults(t, survey.RatingWorkbook{
 		Table: coarse, Lookup: fine, Source: "tallow-xs1.csv", Version: "9.8.7",
-		Warnings: []string{"a warning for the reader"}, Pictures: pics,
+		Warnings: []string{"a warning for the reader"}, Pictures: pics, Survey: sv,
 	})
-	if got, want := f.GetSheetList(), []string{"summary", "rating", "lookup", "subsections", "plots"}; !slices.Equal(got, want) {
+	if got, want := f.GetSheetList(), []string{"summary", "rating", "lookup", "subsections", "survey", "plots"}; !slices.Equal(got, want) {
 		t.Fatalf("sheets %v, want %v", got, want)
 	}
 
@@ -261,6 +265,24 @@ func TestRatingWorkbook(t *testing.T) {
 	lastRow := rows[len(rows)-1]
 	if got, _ := strconv.ParseFloat(lastRow[10], 64); lastRow[2] != "right overbank" || !wbNear(got, last.Subs[len(last.Subs)-1].Discharge, sameValue) {
 		t.Errorf("last subsection row %q", lastRow)
+	}
+
+	// Survey: reads back as the same section.
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	tab, err := survey.ParseWorkbook(&buf, "results.xlsx", "survey")
+	if err != nil {
+		t.Fatal(err)
+	}
+	back, err := survey.SectionFromTable(tab, survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a, b := back.Section, sv.Section; !slices.Equal(a.Points, b.Points) || !slices.Equal(a.N, b.N) ||
+		a.LeftBank != b.LeftBank || a.RightBank != b.RightBank || !slices.Equal(back.Notes, sv.Notes) {
+		t.Errorf("survey sheet reads back as %+v, want %+v", back.Section, sv.Section)
 	}
 
 	// Plots: both pictures, in order.

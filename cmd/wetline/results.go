@@ -17,7 +17,7 @@ import (
 // table's range for the lookup sheet, and the summary facts. A range too
 // long for a lookup sheet leaves the sheet out with a warning.
 func ratingBook(l *loaded, t rating.Table, warnings []string) (survey.RatingWorkbook, []string, error) {
-	rw := survey.RatingWorkbook{Table: t, Version: Version, Source: l.survey.File}
+	rw := survey.RatingWorkbook{Table: t, Version: Version, Source: l.survey.File, Survey: l.survey}
 	if l.survey.Sheet != "" {
 		rw.Source += " ['" + l.survey.Sheet + "']"
 	}

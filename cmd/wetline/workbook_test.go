@@ -157,6 +157,14 @@ func TestFilledTemplateRoundTrip(t *testing.T) {
 			t.Errorf("sheet %s differs between the CSV and the workbook input", sheet)
 		}
 	}
+	// The results workbook's survey sheet rates the same again.
+	again, _, err := runWB(t, "rate", outBook, "--sheet", "survey", "--slope", "0.0012")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if again != fromCSV {
+		t.Errorf("rating from the results workbook's survey sheet differs from the CSV's")
+	}
 	// The summary names the sheet read.
 	if s := wbSheetRows(t, outBook, "summary"); !strings.Contains(strings.Join(s[2], " "), "field.xlsx ['XS-2']") {
 		t.Errorf("summary source %q", s[2])
