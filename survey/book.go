@@ -9,6 +9,7 @@ import (
 	_ "image/png" // AddPictureFromBytes and DecodeConfig need the PNG decoder
 	"io"
 	"math"
+	"strings"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -100,6 +101,10 @@ type Picture struct {
 // Use: b := NewBook(); s, _ := b.Table("rating", cols); s.Row(...); s.Flush();
 // b.Write(w); b.Close().
 type Book struct {
+	// Title heads every printed page (with the sheet name and page
+	// number); set it before adding sheets. Every page's foot carries
+	// Caution.
+	Title   string
 	f       *excelize.File
 	styles  map[string]int
 	first   bool // the default sheet has not been claimed yet
@@ -183,10 +188,26 @@ func (b *Book) style(key string, build func() *excelize.Style) (int, error) {
 	return id, nil
 }
 
+// maxPrintTitle bounds the title printed at the head of a page (the
+// whole header may hold 255 characters).
+const maxPrintTitle = 100
+
 // printSetup makes a sheet print one page wide, as many pages tall as
-// needed, with the header row repeated on every page. It must run before
-// the sheet's stream writer is created.
+// needed, with the header row repeated on every page, the title, sheet
+// and page number at the head and the caution at the foot. It must run
+// before the sheet's stream writer is created.
 func (b *Book) printSetup(sheet string) error {
+	title := []rune(b.Title)
+	if len(title) > maxPrintTitle {
+		title = append(title[:maxPrintTitle-1], '…')
+	}
+	head := strings.NewReplacer("&", "&&").Replace(string(title))
+	if err := b.f.SetHeaderFooter(sheet, &excelize.HeaderFooterOptions{
+		OddHeader: "&L" + head + "&R&A, page &P of &N",
+		OddFooter: "&L&7" + Caution,
+	}); err != nil {
+		return err
+	}
 	fit, one, zero := true, 1, 0
 	if err := b.f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
 		return err

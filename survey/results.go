@@ -103,6 +103,7 @@ func hundredths(h float64) (int64, bool) {
 func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
 	b := NewBook()
 	defer b.Close()
+	b.Title = "wetline rating: " + rw.Table.Name
 	if err := writeSummary(b, rw); err != nil {
 		return err
 	}

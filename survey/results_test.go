@@ -251,6 +251,10 @@ func TestRatingWorkbook(t *testing.T) {
 		if !titles {
 			t.Errorf("%s: no print titles", sheet)
 		}
+		hf, err := f.GetHeaderFooter(sheet)
+		if err != nil || !strings.Contains(hf.OddHeader, "wetline rating: tallow-xs1") || !strings.HasSuffix(hf.OddFooter, survey.Caution) {
+			t.Errorf("%s: printed header %q, footer %q (%v)", sheet, hf.OddHeader, hf.OddFooter, err)
+		}
 	}
 
 	// Subsections: one row per stage and subsection.
@@ -469,5 +473,16 @@ func TestStreamedColumnsAscending(t *testing.T) {
 	}
 	if sheets != 4 {
 		t.Errorf("%d sheets", sheets)
+	}
+}
+
+// TestLongTitle: a long section name with ampersands still prints.
+func TestLongTitle(t *testing.T) {
+	coarse, _ := wbTallow(t)
+	coarse.Name = strings.Repeat("Mill & Tallow ", 40)
+	f := writeResults(t, survey.RatingWorkbook{Table: coarse})
+	hf, err := f.GetHeaderFooter("rating")
+	if err != nil || !strings.Contains(hf.OddHeader, "Mill && Tallow") || !strings.Contains(hf.OddHeader, "…") {
+		t.Errorf("header %q (%v)", hf.OddHeader, err)
 	}
 }

@@ -105,6 +105,7 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	}
 	b := NewBook()
 	defer b.Close()
+	b.Title = "wetline field workbook"
 	names := sectionSheetNames(opt)
 	for i, name := range names {
 		var data [][]any
