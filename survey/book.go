@@ -169,6 +169,20 @@ func (b *Book) LabelStyle() (int, error) {
 	})
 }
 
+// BandStyle returns the id of a style with a number format code ("" for
+// General) on the band colour, for shading every other row of a printed
+// table.
+func (b *Book) BandStyle(format string) (int, error) {
+	return b.style("band:"+format, func() *excelize.Style {
+		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
+	})
+}
+
 // WrapStyle returns the id of a wrapped-text style.
 func (b *Book) WrapStyle() (int, error) {
 	return b.style("wrap", func() *excelize.Style {
@@ -319,6 +333,9 @@ func (s *SheetWriter) Row(values ...any) error {
 		}
 		v := values[i]
 		if sv, ok := v.(Styled); ok {
+			if x, ok := sv.Value.(float64); ok && (math.IsNaN(x) || math.IsInf(x, 0)) {
+				sv.Value = nil // a styled blank cell
+			}
 			s.cells[i] = excelize.Cell{StyleID: sv.Style, Value: sv.Value}
 			row[i] = s.cells[i]
 			continue

@@ -179,8 +179,9 @@ func WriteRatingSheet(b *Book, name string, t rating.Table) error {
 
 // WriteLookupSheet writes the lookup layout of a table rated at
 // hundredths (see LookupStages): column 1 the stage at each tenth, columns
-// 2 to 11 the discharge at that stage plus 0.00 to 0.09. Rows of t whose
-// stage is not on a hundredth are ignored.
+// 2 to 11 the discharge at that stage plus 0.00 to 0.09, every other row
+// shaded for reading across. Rows of t whose stage is not on a hundredth
+// are ignored.
 func WriteLookupSheet(b *Book, name string, t rating.Table) error {
 	L := t.Units.Length()
 	cols := []Column{{Name: "stage", Unit: L, Format: "0.0"}}
@@ -205,12 +206,14 @@ func WriteLookupSheet(b *Book, name string, t rating.Table) error {
 		first := floorDiv(lo, 10) * 10
 		vals := make([]any, 11)
 		for base := first; base <= hi; base += 10 {
-			vals[0] = float64(base) / 100
+			band := floorDiv(base, 10)%2 != 0 // shade every other row
+			if err := lookupCell(b, &vals[0], float64(base)/100, true, "0.0", band); err != nil {
+				return err
+			}
 			for j := int64(0); j < 10; j++ {
-				if v, ok := q[base+j]; ok {
-					vals[j+1] = v
-				} else {
-					vals[j+1] = nil
+				v, ok := q[base+j]
+				if err := lookupCell(b, &vals[j+1], v, ok, decimalsFormat(Sig3Decimals(v)), band); err != nil {
+					return err
 				}
 			}
 			if err := s.Row(vals...); err != nil {
@@ -219,6 +222,28 @@ func WriteLookupSheet(b *Book, name string, t rating.Table) error {
 		}
 	}
 	return s.Flush()
+}
+
+// lookupCell sets *dst to a lookup value (ok) or a blank, on the band
+// colour when band is set.
+func lookupCell(b *Book, dst *any, v float64, ok bool, format string, band bool) error {
+	if !band {
+		*dst = nil
+		if ok {
+			*dst = v
+		}
+		return nil
+	}
+	id, err := b.BandStyle(format)
+	if err != nil {
+		return err
+	}
+	if ok {
+		*dst = Styled{id, v}
+	} else {
+		*dst = Styled{id, nil}
+	}
+	return nil
 }
 
 func floorDiv(a, b int64) int64 {

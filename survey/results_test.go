@@ -257,6 +257,31 @@ func TestRatingWorkbook(t *testing.T) {
 		}
 	}
 
+	// Lookup: discharges to three significant figures, every other row
+	// shaded.
+	fills := 0
+	for _, cell := range []string{"E2", "E3", "E4", "E5"} {
+		v, err := f.GetCellValue("lookup", cell)
+		if err != nil {
+			t.Fatal(err)
+		}
+		q, err := strconv.ParseFloat(v, 64)
+		if err != nil {
+			t.Fatalf("lookup %s: %q", cell, v)
+		}
+		want := strings.TrimSuffix("0."+strings.Repeat("0", survey.Sig3Decimals(q)), ".")
+		if got := numFmt(t, f, "lookup", cell); got != want {
+			t.Errorf("lookup %s = %g: format %q, want %q", cell, q, got, want)
+		}
+		id, _ := f.GetCellStyle("lookup", cell)
+		if st, _ := f.GetStyle(id); st != nil && len(st.Fill.Color) > 0 {
+			fills++
+		}
+	}
+	if fills != 2 {
+		t.Errorf("%d of 4 lookup rows shaded, want 2", fills)
+	}
+
 	// Subsections: one row per stage and subsection.
 	rows, err = f.GetRows("subsections")
 	if err != nil {
