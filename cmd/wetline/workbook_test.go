@@ -225,6 +225,27 @@ func TestRateWorkbookErrors(t *testing.T) {
 	}
 }
 
+// TestRateWorkbookNoLookup: a stage range too long for a lookup sheet
+// leaves the sheet out with a warning.
+func TestRateWorkbookNoLookup(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "results.xlsx")
+	_, stderr, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "--stages", "100.3,101,3000", "-o", out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(stderr, "warning: no lookup sheet") {
+		t.Errorf("console %q lacks the lookup warning", stderr)
+	}
+	f, err := excelize.OpenFile(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if got := f.GetSheetList(); slices.Contains(got, "lookup") {
+		t.Errorf("sheets %v: want no lookup", got)
+	}
+}
+
 func TestRateWorkbookSummary(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "results.xlsx")
 	_, stderr, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "--n", "0.05,0.035,0.07", "-o", out)
