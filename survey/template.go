@@ -147,7 +147,7 @@ func sectionSheetNames(opt TemplateOptions) []string {
 	used := map[string]bool{
 		strings.ToLower(FieldSheetReach): true, strings.ToLower(FieldSheetGaugings): true,
 		strings.ToLower(FieldSheetInstructions): true,
-		"history": true, // reserved by spreadsheet programs
+		"history":                               true, // reserved by spreadsheet programs
 	}
 	names := make([]string, opt.Sections)
 	for i := range names {
