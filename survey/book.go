@@ -243,6 +243,7 @@ type SheetWriter struct {
 	cols   []Column
 	sw     *excelize.StreamWriter
 	styles []int // per column; -1 for FormatSig3
+	widths []float64
 	row    int
 	buf    []any
 	cells  []excelize.Cell
@@ -268,7 +269,7 @@ func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &SheetWriter{b: b, name: name, cols: cols, sw: sw, styles: make([]int, len(cols)), row: 1,
+	s := &SheetWriter{b: b, name: name, cols: cols, sw: sw, styles: make([]int, len(cols)), widths: make([]float64, len(cols)), row: 1,
 		buf: make([]any, len(cols)), cells: make([]excelize.Cell, len(cols))}
 	// The stream writer writes <col> elements in the order its list holds
 	// them and each width goes to the front of that list; spreadsheet
@@ -282,6 +283,7 @@ func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
 		if err := sw.SetColWidth(i+1, i+1, w); err != nil {
 			return nil, err
 		}
+		s.widths[i] = w
 	}
 	for i, c := range cols {
 		if c.Format == FormatSig3 {
@@ -359,7 +361,36 @@ func (s *SheetWriter) Row(values ...any) error {
 	if err != nil {
 		return err
 	}
+	if lines := s.lines(values); lines > 1 {
+		return s.sw.SetRow(cell, row, excelize.RowOpts{Height: float64(lines) * lineHeight})
+	}
 	return s.sw.SetRow(cell, row)
+}
+
+// lineHeight is the height of one line of text in a row, in points.
+const lineHeight = 15
+
+// lines estimates how many wrapped lines the longest text of a row takes,
+// taking a column's width in characters as the characters per line
+// (spreadsheet programs do not size rows of a streamed sheet themselves).
+func (s *SheetWriter) lines(values []any) int {
+	n := 1
+	for i, v := range values {
+		if sv, ok := v.(Styled); ok {
+			v = sv.Value
+		}
+		text, ok := v.(string)
+		if !ok || i >= len(s.widths) {
+			continue
+		}
+		per := max(int(s.widths[i])-1, 1)
+		l := 0
+		for _, para := range strings.Split(text, "\n") {
+			l += max(1, (len([]rune(para))+per-1)/per)
+		}
+		n = max(n, l)
+	}
+	return n
 }
 
 // Rows returns the number of data rows written so far.

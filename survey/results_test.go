@@ -198,6 +198,11 @@ func TestRatingWorkbook(t *testing.T) {
 		}
 	}
 
+	// Long texts get rows tall enough to show them wrapped.
+	if h, err := f.GetRowHeight("summary", len(rows)); err != nil || h < 30 {
+		t.Errorf("caution row height %g (%v), want two lines or more", h, err)
+	}
+
 	// Rating sheet: every value as computed, units in the header.
 	rows, err = f.GetRows("rating")
 	if err != nil {
