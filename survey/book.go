@@ -82,7 +82,7 @@ func decimalsFormat(d int) string {
 const (
 	colourHeaderFill = "23465A" // deep slate blue
 	colourHeaderText = "FFFFFF"
-	colourLabelFill  = "E3ECEF" // pale slate, for label columns
+	colourLabelFill  = "E3ECEF" // pale slate, for label cells and shaded rows
 	colourInputFill  = "FFF9E8" // warm cream, for cells a crew fills in
 	colourRule       = "9AB3BF" // border under the header
 )
