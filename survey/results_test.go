@@ -33,6 +33,10 @@ const sameValue = 1e-13
 // 10050/100): the stages differ in the last bits only.
 const sameStage = 1e-9
 
+// onHundredth is how close, in hundredths, a stage read back must be to a
+// hundredth to be taken as on it (stages are written with 15 digits).
+const onHundredth = 1e-6
+
 func wbNear(a, b, rel float64) bool {
 	return math.Abs(a-b) <= rel*math.Max(math.Abs(a), math.Abs(b))
 }
@@ -365,7 +369,7 @@ func readByStage(t *testing.T, path string) map[int64]float64 {
 		if err1 != nil || err2 != nil {
 			t.Fatal(err1, err2)
 		}
-		if k := math.Round(h * 100); math.Abs(h*100-k) < 1e-6 {
+		if k := math.Round(h * 100); math.Abs(h*100-k) < onHundredth {
 			out[int64(k)] = q
 		}
 	}
