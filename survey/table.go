@@ -53,6 +53,9 @@ const MaxWorkbookBytes = 1 << 30
 // (by extension; sheet "" is the first sheet).
 func ReadTable(path, sheet string) (*Table, error) {
 	if IsWorkbook(path) {
+		if err := checkWorkbookFile(path); err != nil {
+			return nil, &ParseError{File: path, Err: err}
+		}
 		f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
 		if err != nil {
 			return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}

@@ -41,6 +41,7 @@ var commands = map[string]command{
 	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
 	"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
 	"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
+	"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
 }
 
 // usageError marks an error in the command line (exit status 2).

@@ -21,7 +21,7 @@ type rateFlags struct {
 	calib          calibrateFlags
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text|xlsx] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
 
 func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
@@ -32,7 +32,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
-	fs.StringVar(&f.format, "format", "", "output format: csv, json or text (aligned columns to read on screen); default: from the -o extension, else csv")
+	fs.StringVar(&f.format, "format", "", "output format: csv, json, text (aligned columns to read on screen) or xlsx (a results workbook with figures); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
 	plotDir := fs.String("plots", "", "also write the rating, section and properties figures (PNG) into this folder")
@@ -45,9 +45,12 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	if !(f.slope > 0) || math.IsInf(f.slope, 0) {
 		return usagef("rate: --slope S (a positive friction slope) is required")
 	}
-	format, err := outputFormat(f.format, f.output, "csv", "json", "text")
+	format, err := outputFormat(f.format, f.output, "csv", "json", "text", "xlsx")
 	if err != nil {
 		return err
+	}
+	if format == "xlsx" && f.output == "" {
+		return usagef("rate: an xlsx workbook needs -o FILE.xlsx")
 	}
 	l, err := f.load(fs.Arg(0))
 	if err != nil {
@@ -76,12 +79,20 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	warnings = append(warnings, figWarnings...)
+	var book survey.RatingWorkbook
+	if format == "xlsx" {
+		if book, warnings, err = ratingBook(l, t, warnings); err != nil {
+			return fmt.Errorf("%s: %w", fs.Arg(0), err)
+		}
+	}
 	write := func(w io.Writer) error {
 		switch format {
 		case "json":
 			return survey.WriteRatingJSON(w, t, warnings)
 		case "text":
 			return survey.WriteRatingText(w, t, warnings)
+		case "xlsx":
+			return survey.WriteRatingWorkbook(w, book)
 		}
 		return survey.WriteRatingCSV(w, t)
 	}

@@ -1,0 +1,466 @@
+package survey
+
+import (
+	"archive/zip"
+	"bytes"
+	"errors"
+	"fmt"
+	"image"
+	_ "image/png" // AddPictureFromBytes and DecodeConfig need the PNG decoder
+	"io"
+	"math"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// Column describes one column of a sheet written by a Book. The header
+// cell reads "Name (Unit)"; Table.Column strips the bracketed unit, so a
+// sheet written with these headers reads back by Name.
+type Column struct {
+	// Name is the column name readers match, e.g. "stage".
+	Name string
+	// Unit is appended in brackets, e.g. "m" gives "stage (m)"; "" for none.
+	Unit string
+	// Format is an Excel number format code such as "0.000", FormatSig3
+	// (chosen per value), or "" for General.
+	Format string
+	// Width is the column width in characters; 0 fits the header (at least
+	// MinColumnWidth).
+	Width float64
+}
+
+// Header returns the header cell text: the name and the unit in brackets.
+func (c Column) Header() string {
+	if c.Unit == "" {
+		return c.Name
+	}
+	return c.Name + " (" + c.Unit + ")"
+}
+
+// Number formats understood by Column.Format besides Excel format codes.
+const (
+	// FormatSig3 shows a value to three significant figures, never with
+	// fewer than whole units: the cell's format has
+	//
+	//	decimals = clamp(2 − ⌊log10 |v|⌋, 0, MaxSig3Decimals)
+	//
+	// so 1234 shows "1234", 123.4 "123", 12.34 "12.3", 1.234 "1.23",
+	// 0.01234 "0.0123" and 0 "0". The stored value keeps full precision;
+	// only the display is rounded (common practice for rating tables).
+	FormatSig3 = "sig3"
+	// FormatDateTime is the format of date-time cells.
+	FormatDateTime = "yyyy-mm-dd hh:mm"
+	// FormatText stores the column as text (the format code "@").
+	FormatText = "@"
+)
+
+// MaxSig3Decimals bounds the decimals FormatSig3 shows for small values.
+const MaxSig3Decimals = 5
+
+// MinColumnWidth is the narrowest column a Book writes, in characters.
+const MinColumnWidth = 9
+
+// Sig3Decimals returns the decimals FormatSig3 shows for v.
+func Sig3Decimals(v float64) int {
+	if v == 0 || math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0
+	}
+	d := 2 - int(math.Floor(math.Log10(math.Abs(v))))
+	return max(0, min(d, MaxSig3Decimals))
+}
+
+// decimalsFormat returns the format code with d decimals: "0", "0.0", ...
+func decimalsFormat(d int) string {
+	if d <= 0 {
+		return "0"
+	}
+	return "0." + string(bytes.Repeat([]byte{'0'}, d))
+}
+
+// House colours of wetline workbooks (RGB hex).
+const (
+	colourHeaderFill = "23465A" // deep slate blue
+	colourHeaderText = "FFFFFF"
+	colourLabelFill  = "E3ECEF" // pale slate, for label cells and shaded rows
+	colourInputFill  = "FFF9E8" // warm cream, for cells a crew fills in
+	colourRule       = "9AB3BF" // border under the header
+)
+
+// Picture is a PNG image to embed in a workbook, with its caption.
+type Picture struct {
+	Name string
+	PNG  []byte
+}
+
+// Book builds an xlsx workbook sheet by sheet. Table sheets are written row
+// by row through excelize's StreamWriter, so memory stays bounded however
+// many rows a sheet has, and Write streams the zip straight to its writer.
+// A Book must be closed to remove its temporary files.
+//
+// Use: b := NewBook(); s, _ := b.Table("rating", cols); s.Row(...); s.Flush();
+// b.Write(w); b.Close().
+type Book struct {
+	// Title heads every printed page (with the sheet name and page
+	// number); set it before adding sheets. Every page's foot carries
+	// Caution.
+	Title   string
+	f       *excelize.File
+	styles  map[string]int
+	first   bool // the default sheet has not been claimed yet
+	pending *SheetWriter
+}
+
+// NewBook returns an empty workbook.
+func NewBook() *Book {
+	return &Book{f: excelize.NewFile(), styles: map[string]int{}, first: true}
+}
+
+// File exposes the workbook for edits beyond tables (validation rules,
+// notes). Edits to a Table sheet after its Flush are lost.
+func (b *Book) File() *excelize.File { return b.f }
+
+// Close removes the workbook's temporary files.
+func (b *Book) Close() error { return b.f.Close() }
+
+// NewSheet adds an empty sheet (the first call renames the default sheet).
+func (b *Book) NewSheet(name string) error {
+	if b.first {
+		b.first = false
+		return b.f.SetSheetName(b.f.GetSheetName(0), name)
+	}
+	_, err := b.f.NewSheet(name)
+	return err
+}
+
+// Style returns the id of a cell style with a number format code ("" for
+// General), cached per code.
+func (b *Book) Style(format string) (int, error) {
+	return b.style("num:"+format, func() *excelize.Style {
+		st := &excelize.Style{}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
+	})
+}
+
+// HeaderStyle returns the id of the header cell style.
+func (b *Book) HeaderStyle() (int, error) {
+	return b.style("header", func() *excelize.Style {
+		return &excelize.Style{
+			Font:      &excelize.Font{Bold: true, Color: colourHeaderText},
+			Fill:      excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourHeaderFill}},
+			Alignment: &excelize.Alignment{Horizontal: "center", Vertical: "center", WrapText: true},
+			Border:    []excelize.Border{{Type: "bottom", Color: colourRule, Style: 2}},
+		}
+	})
+}
+
+// LabelStyle returns the id of the style of label cells (summary items).
+func (b *Book) LabelStyle() (int, error) {
+	return b.style("label", func() *excelize.Style {
+		return &excelize.Style{
+			Font:      &excelize.Font{Bold: true},
+			Fill:      excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}},
+			Alignment: &excelize.Alignment{Vertical: "top", WrapText: true},
+		}
+	})
+}
+
+// BandStyle returns the id of a style with a number format code ("" for
+// General) on the band colour, for shading every other row of a printed
+// table.
+func (b *Book) BandStyle(format string) (int, error) {
+	return b.style("band:"+format, func() *excelize.Style {
+		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
+	})
+}
+
+// WrapStyle returns the id of a wrapped-text style.
+func (b *Book) WrapStyle() (int, error) {
+	return b.style("wrap", func() *excelize.Style {
+		return &excelize.Style{Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}
+	})
+}
+
+func (b *Book) style(key string, build func() *excelize.Style) (int, error) {
+	if id, ok := b.styles[key]; ok {
+		return id, nil
+	}
+	id, err := b.f.NewStyle(build())
+	if err != nil {
+		return 0, err
+	}
+	b.styles[key] = id
+	return id, nil
+}
+
+// maxPrintTitle bounds the title printed at the head of a page (the
+// whole header may hold 255 characters).
+const maxPrintTitle = 100
+
+// printSetup makes a sheet print one page wide, as many pages tall as
+// needed, with the header row repeated on every page, the title, sheet
+// and page number at the head and the caution at the foot. It must run
+// before the sheet's stream writer is created.
+func (b *Book) printSetup(sheet string) error {
+	title := []rune(b.Title)
+	if len(title) > maxPrintTitle {
+		title = append(title[:maxPrintTitle-1], '…')
+	}
+	head := strings.NewReplacer("&", "&&").Replace(string(title))
+	if err := b.f.SetHeaderFooter(sheet, &excelize.HeaderFooterOptions{
+		OddHeader: "&L" + head + "&R&A, page &P of &N",
+		OddFooter: "&L&7" + Caution,
+	}); err != nil {
+		return err
+	}
+	fit, one, zero := true, 1, 0
+	if err := b.f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
+		return err
+	}
+	if err := b.f.SetPageLayout(sheet, &excelize.PageLayoutOptions{FitToWidth: &one, FitToHeight: &zero}); err != nil {
+		return err
+	}
+	return b.f.SetDefinedName(&excelize.DefinedName{
+		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("'%s'!$1:$1", sheet), Scope: sheet,
+	})
+}
+
+// SheetWriter streams the rows of one table sheet. Its header row is
+// styled and frozen; column widths and number formats come from the
+// Columns.
+type SheetWriter struct {
+	b      *Book
+	name   string
+	cols   []Column
+	sw     *excelize.StreamWriter
+	styles []int // per column; -1 for FormatSig3
+	widths []float64
+	row    int
+	buf    []any
+	cells  []excelize.Cell
+}
+
+// Table starts a table sheet named name with a header row of cols. Rows
+// follow through Row; Flush ends the sheet. One table sheet is written at
+// a time.
+func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
+	if b.pending != nil {
+		return nil, fmt.Errorf("sheet %q: sheet %q is not flushed yet", name, b.pending.name)
+	}
+	if len(cols) == 0 {
+		return nil, fmt.Errorf("sheet %q: no columns", name)
+	}
+	if err := b.NewSheet(name); err != nil {
+		return nil, err
+	}
+	if err := b.printSetup(name); err != nil {
+		return nil, err
+	}
+	sw, err := b.f.NewStreamWriter(name)
+	if err != nil {
+		return nil, err
+	}
+	s := &SheetWriter{b: b, name: name, cols: cols, sw: sw, styles: make([]int, len(cols)), widths: make([]float64, len(cols)), row: 1,
+		buf: make([]any, len(cols)), cells: make([]excelize.Cell, len(cols))}
+	// The stream writer writes <col> elements in the order its list holds
+	// them and each width goes to the front of that list; spreadsheet
+	// programs want them ascending, so set the widths last column first.
+	for i := len(cols) - 1; i >= 0; i-- {
+		c := cols[i]
+		w := c.Width
+		if w == 0 {
+			w = max(float64(len([]rune(c.Header())))+2, MinColumnWidth)
+		}
+		if err := sw.SetColWidth(i+1, i+1, w); err != nil {
+			return nil, err
+		}
+		s.widths[i] = w
+	}
+	for i, c := range cols {
+		if c.Format == FormatSig3 {
+			s.styles[i] = -1
+			continue
+		}
+		if s.styles[i], err = b.Style(c.Format); err != nil {
+			return nil, err
+		}
+	}
+	if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
+		return nil, err
+	}
+	hs, err := b.HeaderStyle()
+	if err != nil {
+		return nil, err
+	}
+	head := make([]any, len(cols))
+	for i, c := range cols {
+		head[i] = excelize.Cell{StyleID: hs, Value: c.Header()}
+	}
+	if err := sw.SetRow("A1", head, excelize.RowOpts{Height: 30}); err != nil {
+		return nil, err
+	}
+	b.pending = s
+	return s, nil
+}
+
+// Styled is a cell value with its own style (from Book.Style,
+// Book.LabelStyle, ...) instead of its column's.
+type Styled struct {
+	Style int
+	Value any
+}
+
+// Row writes the next row. Values are float64 (NaN and ±Inf become blank
+// cells), int, string, time.Time, Styled, or nil for a blank cell; missing
+// trailing values are blank.
+func (s *SheetWriter) Row(values ...any) error {
+	if len(values) > len(s.cols) {
+		return fmt.Errorf("sheet %q: %d values for %d columns", s.name, len(values), len(s.cols))
+	}
+	s.row++
+	row := s.buf[:len(s.cols)]
+	for i := range row {
+		row[i] = nil
+		if i >= len(values) || values[i] == nil {
+			continue
+		}
+		v := values[i]
+		if sv, ok := v.(Styled); ok {
+			if x, ok := sv.Value.(float64); ok && (math.IsNaN(x) || math.IsInf(x, 0)) {
+				sv.Value = nil // a styled blank cell
+			}
+			s.cells[i] = excelize.Cell{StyleID: sv.Style, Value: sv.Value}
+			row[i] = s.cells[i]
+			continue
+		}
+		if x, ok := v.(float64); ok && (math.IsNaN(x) || math.IsInf(x, 0)) {
+			continue
+		}
+		st := s.styles[i]
+		if st < 0 {
+			x, _ := v.(float64)
+			id, err := s.b.Style(decimalsFormat(Sig3Decimals(x)))
+			if err != nil {
+				return err
+			}
+			st = id
+		}
+		s.cells[i] = excelize.Cell{StyleID: st, Value: v}
+		row[i] = s.cells[i]
+	}
+	cell, err := excelize.CoordinatesToCellName(1, s.row)
+	if err != nil {
+		return err
+	}
+	if lines := s.lines(values); lines > 1 {
+		return s.sw.SetRow(cell, row, excelize.RowOpts{Height: float64(lines) * lineHeight})
+	}
+	return s.sw.SetRow(cell, row)
+}
+
+// lineHeight is the height of one line of text in a row, in points.
+const lineHeight = 15
+
+// lines estimates how many wrapped lines the longest text of a row takes,
+// taking a column's width in characters as the characters per line
+// (spreadsheet programs do not size rows of a streamed sheet themselves).
+func (s *SheetWriter) lines(values []any) int {
+	n := 1
+	for i, v := range values {
+		if sv, ok := v.(Styled); ok {
+			v = sv.Value
+		}
+		text, ok := v.(string)
+		if !ok || i >= len(s.widths) {
+			continue
+		}
+		per := max(int(s.widths[i])-1, 1)
+		l := 0
+		for _, para := range strings.Split(text, "\n") {
+			l += max(1, (len([]rune(para))+per-1)/per)
+		}
+		n = max(n, l)
+	}
+	return n
+}
+
+// Rows returns the number of data rows written so far.
+func (s *SheetWriter) Rows() int { return s.row - 1 }
+
+// Flush ends the sheet.
+func (s *SheetWriter) Flush() error {
+	if s.b.pending == s {
+		s.b.pending = nil
+	}
+	return s.sw.Flush()
+}
+
+// PictureWidth is the width, in pixels, pictures are shown at in a sheet.
+const PictureWidth = 960
+
+// Pictures adds a sheet holding each PNG under its caption, one below the
+// other, scaled to PictureWidth pixels wide.
+func (b *Book) Pictures(sheet string, pics []Picture) error {
+	if err := b.NewSheet(sheet); err != nil {
+		return err
+	}
+	ls, err := b.LabelStyle()
+	if err != nil {
+		return err
+	}
+	if err := b.f.SetColWidth(sheet, "A", "A", 2); err != nil {
+		return err
+	}
+	const rowPixels = 20 // default row height, 15 pt
+	row := 2
+	for _, p := range pics {
+		cfg, format, err := image.DecodeConfig(bytes.NewReader(p.PNG))
+		if err != nil || format != "png" {
+			return fmt.Errorf("picture %q: not a PNG image", p.Name)
+		}
+		scale := 1.0
+		if cfg.Width > PictureWidth {
+			scale = float64(PictureWidth) / float64(cfg.Width)
+		}
+		if err := b.f.SetCellStr(sheet, fmt.Sprintf("B%d", row), p.Name); err != nil {
+			return err
+		}
+		if err := b.f.SetCellStyle(sheet, fmt.Sprintf("B%d", row), fmt.Sprintf("B%d", row), ls); err != nil {
+			return err
+		}
+		row++
+		if err := b.f.AddPictureFromBytes(sheet, fmt.Sprintf("B%d", row), &excelize.Picture{
+			Extension: ".png", File: p.PNG,
+			Format: &excelize.GraphicOptions{AltText: p.Name, ScaleX: scale, ScaleY: scale, LockAspectRatio: true},
+		}); err != nil {
+			return fmt.Errorf("picture %q: %w", p.Name, err)
+		}
+		row += int(math.Ceil(float64(cfg.Height)*scale/rowPixels)) + 2
+	}
+	return nil
+}
+
+// ErrOpenSheet is returned by Write while a table sheet is not flushed.
+var ErrOpenSheet = errors.New("a table sheet is not flushed")
+
+// Write writes the workbook as xlsx to w, zipping straight into w so the
+// file is never held in memory whole.
+func (b *Book) Write(w io.Writer) error {
+	if b.pending != nil {
+		return fmt.Errorf("sheet %q: %w", b.pending.name, ErrOpenSheet)
+	}
+	// excelize zips into an in-memory buffer and copies it to w; handing
+	// it a zip writer on w instead leaves that buffer empty.
+	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return zip.NewWriter(w) })
+	_, err := b.f.WriteTo(w)
+	return err
+}

@@ -1,0 +1,75 @@
+package survey_test
+
+import (
+	"bytes"
+	"fmt"
+
+	"wetline/survey"
+)
+
+// A table sheet written with units and number formats reads back by its
+// column names.
+func ExampleBook() {
+	b := survey.NewBook()
+	defer b.Close()
+	s, err := b.Table("gaugings", []survey.Column{
+		{Name: "stage", Unit: "m", Format: "0.000"},
+		{Name: "discharge", Unit: "m3/s", Format: survey.FormatSig3},
+		{Name: "quality"},
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s.Row(1.25, 3.412, "good")
+	s.Row(1.6, 17.93, "fair")
+	if err := s.Flush(); err != nil {
+		fmt.Println(err)
+		return
+	}
+	var buf bytes.Buffer
+	if err := b.Write(&buf); err != nil {
+		fmt.Println(err)
+		return
+	}
+	tab, err := survey.ParseWorkbook(&buf, "gaugings.xlsx", "")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(tab.Header, "discharge is column", tab.Column("discharge"))
+	for _, rec := range tab.Records {
+		fmt.Println(rec.Row, rec.Cells)
+	}
+	// Output:
+	// [stage (m) discharge (m3/s) quality] discharge is column 1
+	// 2 [1.25 3.412 good]
+	// 3 [1.6 17.93 fair]
+}
+
+// Discharges are shown to three significant figures, never with fewer
+// than whole units.
+func ExampleSig3Decimals() {
+	for _, q := range []float64{1234.6, 123.46, 12.346, 1.2346, 0.012346} {
+		fmt.Printf("%.*f\n", survey.Sig3Decimals(q), q)
+	}
+	// Output:
+	// 1235
+	// 123
+	// 12.3
+	// 1.23
+	// 0.0123
+}
+
+// A lookup table starts at the tenth at or below the lowest ground and
+// steps by hundredths.
+func ExampleLookupStages() {
+	stages, err := survey.LookupStages(100.34, 100.52)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(len(stages), stages[0], stages[1], stages[len(stages)-1])
+	// Output:
+	// 23 100.3 100.31 100.52
+}

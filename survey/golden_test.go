@@ -1,0 +1,6 @@
+package survey_test
+
+import "flag"
+
+// update rewrites the golden files under testdata: go test -update.
+var update = flag.Bool("update", false, "rewrite golden files under testdata")

@@ -1,0 +1,443 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// Sheet names of a results workbook, in order.
+const (
+	SheetSummary     = "summary"
+	SheetRating      = "rating"
+	SheetLookup      = "lookup"
+	SheetSubsections = "subsections"
+	SheetSurvey      = "survey"
+	SheetPlots       = "plots"
+)
+
+// RatingWorkbook is everything a results workbook of the rate command
+// shows. The zero value of every field but Table is useful.
+type RatingWorkbook struct {
+	// Table is the rating table as computed (any stages, any order).
+	Table rating.Table
+	// Lookup is the same section rated at every hundredth of a unit of
+	// stage (see LookupStages); with no rows the lookup sheet is left out.
+	Lookup rating.Table
+	// Source names the survey read (file and sheet), for the summary.
+	Source string
+	// Version is the program version stated in the summary.
+	Version string
+	// Warnings are shown on the summary sheet.
+	Warnings []string
+	// Survey is the survey as read (no points: no survey sheet). Its
+	// sheet has the columns of a field workbook's cross-section sheet, so
+	// ReadSection can read it back from the results workbook.
+	Survey Survey
+	// Pictures are embedded on a plots sheet (none: no sheet).
+	Pictures []Picture
+}
+
+// MaxLookupStages bounds the stages of a lookup table (a tenth as many rows).
+const MaxLookupStages = 200_000
+
+// ErrLookupRange is returned by LookupStages for a range too long to print.
+var ErrLookupRange = errors.New("stage range too long for a lookup table")
+
+// LookupStages returns the stages of a lookup table from bottom to top:
+// every hundredth of a unit, k/100 for integer k, starting at the tenth at
+// or below bottom (stages below the ground are dry: zero discharge) and
+// ending at the last hundredth at or below top.
+func LookupStages(bottom, top float64) ([]float64, error) {
+	if math.IsNaN(bottom) || math.IsNaN(top) || math.IsInf(bottom, 0) || math.IsInf(top, 0) || top < bottom {
+		return nil, fmt.Errorf("%w: from %g to %g", ErrLookupRange, bottom, top)
+	}
+	k0 := int64(math.Floor(bottom*10+lookupRound)) * 10
+	k1 := int64(math.Floor(top*100 + lookupRound))
+	if k1-k0+1 > MaxLookupStages {
+		return nil, fmt.Errorf("%w: %d stages from %g to %g is more than %d", ErrLookupRange, k1-k0+1, bottom, top, MaxLookupStages)
+	}
+	out := make([]float64, 0, k1-k0+1)
+	for k := k0; k <= k1; k++ {
+		out = append(out, float64(k)/100)
+	}
+	return out, nil
+}
+
+// lookupRound absorbs round-off when a stage is turned into hundredths
+// (a stage within 1e-6 of a hundredth is taken to be on it).
+const lookupRound = 1e-6
+
+// hundredths returns a stage as an integer number of hundredths, and
+// whether it lies on one (within lookupRound).
+func hundredths(h float64) (int64, bool) {
+	k := math.Round(h * 100)
+	return int64(k), math.Abs(h*100-k) <= lookupRound*100
+}
+
+// WriteRatingWorkbook writes a results workbook to w. Sheets:
+//
+//   - summary: section, source, program version, units, slope, banks,
+//     Manning's n by subsection, stage range, warnings and the caution;
+//   - rating: the full table, one row per stage, the columns of
+//     WriteRatingCSV with units in brackets; stage 0.000, discharges to
+//     three significant figures (FormatSig3);
+//   - lookup: discharge by stage in the printed layout of hydrometry, one
+//     row per tenth of a unit of stage and ten columns for the hundredths.
+//     Each cell is the hydraulics computed at that exact stage (taken from
+//     rw.Lookup, no interpolation), so it agrees with the rating sheet
+//     wherever both hold the same stage; a cell whose stage was not
+//     computed (above the section's top) is blank;
+//   - subsections: per stage and subsection, its n, area, wetted
+//     perimeter, top width, conveyance, discharge and velocity;
+//   - survey: the ground points as read (station, elevation, n, mark,
+//     note), when given;
+//   - plots: the pictures, when given.
+//
+// Every table sheet is streamed, so memory stays bounded for any number of
+// rows.
+func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
+	b := NewBook()
+	defer b.Close()
+	b.Title = "wetline rating: " + rw.Table.Name
+	if err := writeSummary(b, rw); err != nil {
+		return err
+	}
+	if err := WriteRatingSheet(b, SheetRating, rw.Table); err != nil {
+		return err
+	}
+	if len(rw.Lookup.Rows) > 0 {
+		if err := WriteLookupSheet(b, SheetLookup, rw.Lookup); err != nil {
+			return err
+		}
+	}
+	if err := WriteSubsectionSheet(b, SheetSubsections, rw.Table); err != nil {
+		return err
+	}
+	if len(rw.Survey.Section.Points) > 0 {
+		if err := WriteSurveySheet(b, SheetSurvey, rw.Survey, rw.Table.Units); err != nil {
+			return err
+		}
+	}
+	if len(rw.Pictures) > 0 {
+		if err := b.Pictures(SheetPlots, rw.Pictures); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// RatingSheetColumns returns the columns of a rating sheet for t: the
+// names of WriteRatingCSV with units and number formats.
+func RatingSheetColumns(t rating.Table) []Column {
+	u := t.Units
+	L, A, Q := u.Length(), u.Area(), u.Discharge()
+	cols := []Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "depth", Unit: L, Format: "0.000"},
+		{Name: "area", Unit: A, Format: FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "hydraulic_radius", Unit: L, Format: "0.000"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "discharge", Unit: Q, Format: FormatSig3},
+		{Name: "mean_velocity", Unit: u.Velocity(), Format: "0.00"},
+		{Name: "alpha", Format: "0.000"},
+		{Name: "froude", Format: "0.00"},
+		{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
+		{Name: "beta", Format: "0.000"},
+		{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"},
+	}
+	for i := range t.Subsections {
+		cols = append(cols, Column{Name: SubsectionColumn(t, i), Unit: Q, Format: FormatSig3})
+	}
+	return cols
+}
+
+// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
+func WriteRatingSheet(b *Book, name string, t rating.Table) error {
+	s, err := b.Table(name, RatingSheetColumns(t))
+	if err != nil {
+		return err
+	}
+	vals := make([]any, 0, len(s.cols))
+	for _, r := range t.Rows {
+		vals = vals[:0]
+		for _, v := range rowValues(r) {
+			vals = append(vals, v)
+		}
+		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+// WriteLookupSheet writes the lookup layout of a table rated at
+// hundredths (see LookupStages): column 1 the stage at each tenth, columns
+// 2 to 11 the discharge at that stage plus 0.00 to 0.09, every other row
+// shaded for reading across. Rows of t whose stage is not on a hundredth
+// are ignored.
+func WriteLookupSheet(b *Book, name string, t rating.Table) error {
+	L := t.Units.Length()
+	cols := []Column{{Name: "stage", Unit: L, Format: "0.0"}}
+	for j := range 10 {
+		cols = append(cols, Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: FormatSig3, Width: 10})
+	}
+	q := map[int64]float64{}
+	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
+	for _, r := range t.Rows {
+		k, ok := hundredths(r.Stage)
+		if !ok {
+			continue
+		}
+		q[k] = r.Discharge
+		lo, hi = min(lo, k), max(hi, k)
+	}
+	s, err := b.Table(name, cols)
+	if err != nil {
+		return err
+	}
+	if len(q) > 0 {
+		first := floorDiv(lo, 10) * 10
+		vals := make([]any, 11)
+		for base := first; base <= hi; base += 10 {
+			band := floorDiv(base, 10)%2 != 0 // shade every other row
+			if err := lookupCell(b, &vals[0], float64(base)/100, true, "0.0", band); err != nil {
+				return err
+			}
+			for j := int64(0); j < 10; j++ {
+				v, ok := q[base+j]
+				if err := lookupCell(b, &vals[j+1], v, ok, decimalsFormat(Sig3Decimals(v)), band); err != nil {
+					return err
+				}
+			}
+			if err := s.Row(vals...); err != nil {
+				return err
+			}
+		}
+	}
+	return s.Flush()
+}
+
+// lookupCell sets *dst to a lookup value (ok) or a blank, on the band
+// colour when band is set.
+func lookupCell(b *Book, dst *any, v float64, ok bool, format string, band bool) error {
+	if !band {
+		*dst = nil
+		if ok {
+			*dst = v
+		}
+		return nil
+	}
+	id, err := b.BandStyle(format)
+	if err != nil {
+		return err
+	}
+	if ok {
+		*dst = Styled{id, v}
+	} else {
+		*dst = Styled{id, nil}
+	}
+	return nil
+}
+
+func floorDiv(a, b int64) int64 {
+	q := a / b
+	if (a%b != 0) && ((a < 0) != (b < 0)) {
+		q--
+	}
+	return q
+}
+
+// WriteSubsectionSheet writes one row per stage and subsection.
+func WriteSubsectionSheet(b *Book, name string, t rating.Table) error {
+	u := t.Units
+	L := u.Length()
+	s, err := b.Table(name, []Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "subsection", Format: "0"},
+		{Name: "region", Width: 15},
+		{Name: "from_station", Unit: L, Format: "0.00"},
+		{Name: "to_station", Unit: L, Format: "0.00"},
+		{Name: "n", Format: "0.000"},
+		{Name: "area", Unit: u.Area(), Format: FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, r := range t.Rows {
+		for i, sr := range r.Subs {
+			if err := s.Row(r.Stage, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
+				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
+				return err
+			}
+		}
+	}
+	return s.Flush()
+}
+
+// WriteSurveySheet writes a survey as a table sheet with the columns of a
+// field workbook's cross-section sheet (see WriteTemplate), readable by
+// ReadSection.
+func WriteSurveySheet(b *Book, name string, sv Survey, u rating.Units) error {
+	cols := sectionColumns(u)
+	out := make([]Column, len(cols))
+	for i, c := range cols {
+		out[i] = c.Column
+	}
+	s, err := b.Table(name, out)
+	if err != nil {
+		return err
+	}
+	for _, r := range surveyRows(sv) {
+		if err := s.Row(r...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+// SummaryColumns are the columns of a summary sheet: item, value, unit.
+var SummaryColumns = []Column{
+	{Name: "item", Width: 34},
+	{Name: "value", Width: 70},
+	{Name: "unit", Width: 10},
+}
+
+// SummaryItem is one row of a summary sheet. Value is a string, a number
+// (shown as written; a Styled value keeps its own format) or nil.
+type SummaryItem struct {
+	Item  string
+	Value any
+	Unit  string
+}
+
+// WriteSummarySheet writes a summary sheet (SummaryColumns): the items in
+// order, then one row per warning ("warnings: none" when there are none),
+// then the caution (Caution), which every report carries. Items whose
+// value is "" or nil are left out.
+func WriteSummarySheet(b *Book, name string, items []SummaryItem, warnings []string) error {
+	s, err := b.Table(name, SummaryColumns)
+	if err != nil {
+		return err
+	}
+	ls, err := b.LabelStyle()
+	if err != nil {
+		return err
+	}
+	ws, err := b.WrapStyle()
+	if err != nil {
+		return err
+	}
+	row := func(it SummaryItem) error {
+		if it.Value == nil || it.Value == "" {
+			return nil
+		}
+		v := it.Value
+		if str, ok := v.(string); ok {
+			v = Styled{ws, str}
+		}
+		return s.Row(Styled{ls, it.Item}, v, it.Unit)
+	}
+	for _, it := range items {
+		if err := row(it); err != nil {
+			return err
+		}
+	}
+	if len(warnings) == 0 {
+		if err := row(SummaryItem{"warnings", "none", ""}); err != nil {
+			return err
+		}
+	}
+	for _, w := range warnings {
+		if err := row(SummaryItem{"warning", w, ""}); err != nil {
+			return err
+		}
+	}
+	if err := row(SummaryItem{"caution", Caution, ""}); err != nil {
+		return err
+	}
+	return s.Flush()
+}
+
+// Sig3 returns v styled to show three significant figures (FormatSig3),
+// for a single cell such as a summary value.
+func (b *Book) Sig3(v float64) (Styled, error) {
+	id, err := b.Style(decimalsFormat(Sig3Decimals(v)))
+	return Styled{id, v}, err
+}
+
+// writeSummary writes the summary sheet of a results workbook.
+func writeSummary(b *Book, rw RatingWorkbook) error {
+	t := rw.Table
+	u := t.Units
+	version := rw.Version
+	if version == "" {
+		version = "unknown"
+	}
+	items := []SummaryItem{
+		{"section", t.Name, ""},
+		{"survey", rw.Source, ""},
+		{"program", "wetline " + version, ""},
+		{"method", "Manning's equation by subsection, conveyance summed (Chow, 1959)", ""},
+		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, u.Length(), u.Discharge()), ""},
+		{"friction slope", t.Slope, u.Length() + "/" + u.Length()},
+		{"lowest ground", t.Bottom, u.Length()},
+		{"lower end of the section", t.Top, u.Length()},
+	}
+	if l, r, ok := banks(t.Subsections); ok {
+		items = append(items, SummaryItem{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
+	} else {
+		items = append(items, SummaryItem{"main channel between banks", "no banks: the whole section is channel", ""})
+	}
+	for i, sub := range t.Subsections {
+		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""})
+	}
+	if n := len(t.Rows); n > 0 {
+		lo, hi := t.Rows[0], t.Rows[0]
+		for _, r := range t.Rows {
+			if r.Stage < lo.Stage {
+				lo = r
+			}
+			if r.Stage > hi.Stage {
+				hi = r
+			}
+		}
+		q, err := b.Sig3(hi.Discharge)
+		if err != nil {
+			return err
+		}
+		items = append(items,
+			SummaryItem{"stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()},
+			SummaryItem{"discharge at the highest stage", q, u.Discharge()})
+	}
+	if len(rw.Lookup.Rows) > 0 {
+		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
+	}
+	return WriteSummarySheet(b, SheetSummary, items, rw.Warnings)
+}
+
+// banks returns the main-channel limits implied by a subsection layout:
+// the outer stations of the channel subsections, when overbanks exist.
+func banks(subs []subdivide.Subsection) (left, right float64, ok bool) {
+	left, right = math.Inf(1), math.Inf(-1)
+	over := false
+	for _, s := range subs {
+		if s.Region == subdivide.Channel {
+			left, right = min(left, s.From), max(right, s.To)
+		} else {
+			over = true
+		}
+	}
+	return left, right, over && left < right
+}
