@@ -225,9 +225,9 @@ func writeSASubreaches(b *Book, rep SlopeAreaReport) error {
 func writeSAChecks(b *Book, rep SlopeAreaReport) error {
 	cols := []Column{
 		{Name: "check", Width: 30},
-		{Name: "value", Format: "0.000"},
+		{Name: "value", Format: FormatSig3},
 		{Name: "relation", Width: 10},
-		{Name: "limit", Format: "0.000"},
+		{Name: "limit", Format: FormatSig3},
 		{Name: "status", Width: 10},
 		{Name: "source", Width: 60},
 	}
