@@ -33,3 +33,34 @@ func ExampleQuality_Outside() {
 	// Output:
 	// 5 false true
 }
+
+// The lookup table's rule at stages between its rows: below the lowest
+// gauging the fit (extrapolated), within the gaugings the fit: here
+// 4·(h − 0.2)^1.8, the law the gaugings follow (closed form).
+func ExampleFitTable_At() {
+	var gs []rating.Gauging
+	for _, h := range []float64{0.5, 0.8, 1.1, 1.5, 2.0, 2.6} {
+		gs = append(gs, rating.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
+	}
+	f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	t, err := rating.LookupTable(f, rating.TableOptions{Step: 0.5})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, h := range []float64{0.33, 1.27} {
+		r, err := t.At(f, nil, h)
+		if err != nil {
+			fmt.Println(err)
+			return
+		}
+		fmt.Printf("%.2f m: %.4f m3/s, %s, extrapolated %v\n", h, r.Discharge, r.Basis, r.Extrapolated())
+	}
+	// Output:
+	// 0.33 m: 0.1017 m3/s, fit below gaugings, extrapolated true
+	// 1.27 m: 4.5180 m3/s, fit, extrapolated false
+}

@@ -173,24 +173,9 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 	stages = SortedStages(stages)
 	sort.Float64s(stages)
 	for _, h := range stages {
-		r := FitRow{Stage: h, Hydraulic: math.NaN(), Lower: math.NaN(), Upper: math.NaN()}
-		if c != nil {
-			q, err := c.Discharge(h)
-			if err != nil {
-				return t, err
-			}
-			r.Hydraulic = q
-		}
-		switch {
-		case h > f.HighStage && c != nil:
-			r.Basis = HydraulicAbove
-			r.Discharge = t.ScaleFactor * r.Hydraulic
-		default:
-			if h < f.LowStage {
-				r.Basis = BelowGaugings
-			}
-			r.Discharge = f.Discharge(h)
-			r.Lower, r.Upper = f.Band(h)
+		r, err := t.rule(f, c, h)
+		if err != nil {
+			return t, err
 		}
 		t.Rows = append(t.Rows, r)
 	}
@@ -205,4 +190,48 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 		}
 	}
 	return t, nil
+}
+
+// rule returns the table's row at gauge height h: the fitted curve (with
+// its band) up to the highest gauging, Basis BelowGaugings below the
+// lowest one, and above the highest gauging, with a section, the
+// hydraulic discharge times ScaleFactor.
+func (t *FitTable) rule(f *Fit, c *HydraulicCurve, h float64) (FitRow, error) {
+	r := FitRow{Stage: h, Hydraulic: math.NaN(), Lower: math.NaN(), Upper: math.NaN()}
+	if c != nil {
+		q, err := c.Discharge(h)
+		if err != nil {
+			return r, err
+		}
+		r.Hydraulic = q
+	}
+	switch {
+	case h > f.HighStage && c != nil:
+		r.Basis = HydraulicAbove
+		r.Discharge = t.ScaleFactor * r.Hydraulic
+	default:
+		if h < f.LowStage {
+			r.Basis = BelowGaugings
+		}
+		r.Discharge = f.Discharge(h)
+		r.Lower, r.Upper = f.Band(h)
+	}
+	return r, nil
+}
+
+// TableEdge is how far, in length units, At accepts a stage beyond the
+// table's first or last row (round-off of a stage written in hundredths).
+const TableEdge = 1e-9
+
+// At evaluates the table's rule at any gauge height h between its first
+// and last rows, exactly as LookupTable does for its own rows: f is the
+// fit and c the hydraulic rating the table was laid out with (nil when
+// none). It is how a finer table (every hundredth of stage, say) is made
+// without interpolating between rows. A stage outside the table is an
+// ErrBeyondSection error.
+func (t *FitTable) At(f *Fit, c *HydraulicCurve, h float64) (FitRow, error) {
+	if len(t.Rows) == 0 || math.IsNaN(h) || h < t.Rows[0].Stage-TableEdge || h > t.Rows[len(t.Rows)-1].Stage+TableEdge {
+		return FitRow{}, fmt.Errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
+	}
+	return t.rule(f, c, h)
 }

@@ -65,3 +65,52 @@ func TestLookupTable(t *testing.T) {
 		t.Errorf("without a section the table ends at %+v", l)
 	}
 }
+
+// FitTable.At gives every row of the table back exactly (it is the rule
+// the table was laid out with), follows the same three pieces between
+// rows, and refuses stages outside the table.
+func TestFitTableAt(t *testing.T) {
+	truth := compound(t, 0.030, 0.060)
+	gs := sample(t, truth, linspace(1.0, 2.4, 12))
+	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	tab, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, Step: 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	same := func(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
+	for _, r := range tab.Rows {
+		got, err := tab.At(f, &c, r.Stage)
+		if err != nil {
+			t.Fatalf("stage %g: %v", r.Stage, err)
+		}
+		if !same(got.Discharge, r.Discharge) || got.Basis != r.Basis || !same(got.Lower, r.Lower) || !same(got.Hydraulic, r.Hydraulic) {
+			t.Errorf("stage %g: At gives %+v, the table %+v", r.Stage, got, r)
+		}
+	}
+	for _, tc := range []struct {
+		h     float64
+		basis rating.Basis
+	}{{0.73, rating.BelowGaugings}, {1.57, rating.WithinGaugings}, {2.43, rating.HydraulicAbove}} {
+		got, err := tab.At(f, &c, tc.h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := f.Discharge(tc.h)
+		if tc.basis == rating.HydraulicAbove {
+			q, _ := c.Discharge(tc.h)
+			want = tab.ScaleFactor * q
+		}
+		if got.Basis != tc.basis || got.Discharge != want {
+			t.Errorf("stage %g: %v %g, want %v %g", tc.h, got.Basis, got.Discharge, tc.basis, want)
+		}
+	}
+	for _, h := range []float64{0.49, c.Top() + 0.01, math.NaN()} {
+		if _, err := tab.At(f, &c, h); !errors.Is(err, rating.ErrBeyondSection) {
+			t.Errorf("stage %g outside the table: err = %v", h, err)
+		}
+	}
+}

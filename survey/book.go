@@ -183,6 +183,37 @@ func (b *Book) BandStyle(format string) (int, error) {
 	})
 }
 
+// MarkFill is the fill colour (RGB hex) of marked cells, such as the
+// extrapolated rows of a fitted rating: a pale amber no other style uses.
+const MarkFill = "F8DDBA"
+
+// MarkStyle returns the id of the style of a marked cell (italic on
+// MarkFill) with a number format code ("" for General), for rows or cells
+// a reader must not take for measured ones, such as extrapolated
+// discharges.
+func (b *Book) MarkStyle(format string) (int, error) {
+	return b.style("mark:"+format, func() *excelize.Style {
+		st := &excelize.Style{Font: &excelize.Font{Italic: true},
+			Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{MarkFill}}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
+	})
+}
+
+// Marked returns v in the marked style (see MarkStyle) with its column's
+// number format, format being a format code or FormatSig3.
+func (b *Book) Marked(format string, v any) (Styled, error) {
+	if format == FormatSig3 {
+		x, _ := v.(float64)
+		format = decimalsFormat(Sig3Decimals(x))
+	}
+	id, err := b.MarkStyle(format)
+	return Styled{id, v}, err
+}
+
 // WrapStyle returns the id of a wrapped-text style.
 func (b *Book) WrapStyle() (int, error) {
 	return b.style("wrap", func() *excelize.Style {

@@ -183,19 +183,40 @@ func WriteRatingSheet(b *Book, name string, t rating.Table) error {
 // shaded for reading across. Rows of t whose stage is not on a hundredth
 // are ignored.
 func WriteLookupSheet(b *Book, name string, t rating.Table) error {
-	L := t.Units.Length()
+	cells := make([]LookupCell, len(t.Rows))
+	for i, r := range t.Rows {
+		cells[i] = LookupCell{Stage: r.Stage, Discharge: r.Discharge}
+	}
+	return WriteLookupCells(b, name, t.Units, cells)
+}
+
+// LookupCell is one value of a lookup sheet: the discharge at a stage on
+// a hundredth, and whether the cell is marked (extrapolated, say).
+type LookupCell struct {
+	Stage, Discharge float64
+	Marked           bool
+}
+
+// WriteLookupCells writes the lookup layout of WriteLookupSheet from
+// cells in any order: one row per tenth of stage, ten columns for the
+// hundredths, every other row shaded, marked cells in the marked style
+// (Book.MarkStyle) whatever their row. A hundredth without a cell is
+// blank; cells whose stage is not on a hundredth are ignored. u gives the
+// stage unit.
+func WriteLookupCells(b *Book, name string, u rating.Units, cells []LookupCell) error {
+	L := u.Length()
 	cols := []Column{{Name: "stage", Unit: L, Format: "0.0"}}
 	for j := range 10 {
 		cols = append(cols, Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: FormatSig3, Width: 10})
 	}
-	q := map[int64]float64{}
+	q := map[int64]LookupCell{}
 	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
-	for _, r := range t.Rows {
-		k, ok := hundredths(r.Stage)
+	for _, c := range cells {
+		k, ok := hundredths(c.Stage)
 		if !ok {
 			continue
 		}
-		q[k] = r.Discharge
+		q[k] = c
 		lo, hi = min(lo, k), max(hi, k)
 	}
 	s, err := b.Table(name, cols)
@@ -211,8 +232,17 @@ func WriteLookupSheet(b *Book, name string, t rating.Table) error {
 				return err
 			}
 			for j := int64(0); j < 10; j++ {
-				v, ok := q[base+j]
-				if err := lookupCell(b, &vals[j+1], v, ok, decimalsFormat(Sig3Decimals(v)), band); err != nil {
+				c, ok := q[base+j]
+				format := decimalsFormat(Sig3Decimals(c.Discharge))
+				if ok && c.Marked {
+					id, err := b.MarkStyle(format)
+					if err != nil {
+						return err
+					}
+					vals[j+1] = Styled{id, c.Discharge}
+					continue
+				}
+				if err := lookupCell(b, &vals[j+1], c.Discharge, ok, format, band); err != nil {
 					return err
 				}
 			}

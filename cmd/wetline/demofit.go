@@ -34,10 +34,10 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 	if err != nil {
 		return err
 	}
+	hyd := &rating.HydraulicCurve{Geometry: l.geom, Datum: demoDatum,
+		Options: rating.Options{Slope: demoSlope, Units: l.units, Geometry: l.geomOpt}}
 	rep, err := rating.GaugingsReport(gs.Gaugings, rating.ReportOptions{
-		Site: l.survey.Section.Name, Units: l.units,
-		Hydraulic: &rating.HydraulicCurve{Geometry: l.geom, Datum: demoDatum,
-			Options: rating.Options{Slope: demoSlope, Units: l.units, Geometry: l.geomOpt}},
+		Site: l.survey.Section.Name, Units: l.units, Hydraulic: hyd,
 	})
 	if err != nil {
 		return err
@@ -68,6 +68,17 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 	if err := writeFigures(e.stdout, dir, figs, inputs); err != nil {
 		return err
 	}
+	book, err := fitBook(rep, hyd, []string{demoGaugings, demoSurvey}, "", "tallow", figs)
+	if err != nil {
+		return err
+	}
+	const bookName = "tallow-fit.xlsx"
+	if err := survey.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
+		return survey.WriteFitWorkbook(w, book)
+	}); err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stdout, "  %-28s %s\n", bookName, "results workbook: fit, gaugings with residuals, fitted rating and lookup by hundredths (extrapolated shaded), n by stage, figure")
 	printWarnings(e.stdout, rep.Warnings)
 	return nil
 }

@@ -58,6 +58,13 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 	if err := writeFigures(e.stdout, dir, figs, inputs); err != nil {
 		return err
 	}
+	bookName := demoReachReport + ".xlsx"
+	if err := survey.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
+		return survey.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
+	}); err != nil {
+		return err
+	}
+	fmt.Fprintf(e.stdout, "  %-28s %s\n", bookName, "results workbook: summary, inputs, sections, subreaches, checks, uncertainty, figures")
 	r := rep.Result
 	fmt.Fprintf(e.stdout, "  peak discharge %s %s", sig3(r.Discharge), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {

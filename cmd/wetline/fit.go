@@ -14,7 +14,7 @@ import (
 )
 
 const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S [--datum D] [--channel-only] [--compare-only]] " +
-	"[--segments N | --breaks H1,H2] [--zero-flow auto|control|VALUE] [--to H] [--step D] [--units si|us] [--format text|json|csv] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--segments N | --breaks H1,H2] [--zero-flow auto|control|VALUE] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
 
 // fitFlags are the flags of the fit command.
 type fitFlags struct {
@@ -49,7 +49,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the lookup table (default: the section's lower end, else the highest gauging)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the lookup table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)
-	fs.StringVar(&f.format, "format", "", "output format: text, json or csv (default: from the -o extension, else text)")
+	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, lookup sheet and figure; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings (PNG) into this folder")
 	fs.StringVar(&f.site, "site", "", "site name for the figure title")
@@ -63,9 +63,12 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	format, err := outputFormat(f.format, f.output, "text", "json", "csv")
+	format, err := outputFormat(f.format, f.output, "text", "json", "csv", "xlsx")
 	if err != nil {
 		return err
+	}
+	if format == "xlsx" && f.output == "" {
+		return usagef("fit: an xlsx workbook needs -o FILE.xlsx")
 	}
 	path := fs.Arg(0)
 	inputs := []string{path}
@@ -114,8 +117,17 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Warnings = append(rep.Warnings, w...)
 	}
+	var book survey.FitWorkbook
+	if format == "xlsx" {
+		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+		if book, err = fitBook(rep, opt.Hydraulic, inputs, f.site, base, figs); err != nil {
+			return fmt.Errorf("%s: %w", path, err)
+		}
+	}
 	write := func(w io.Writer) error {
 		switch format {
+		case "xlsx":
+			return survey.WriteFitWorkbook(w, book)
 		case "json":
 			return survey.WriteGaugingReportJSON(w, rep)
 		case "csv":

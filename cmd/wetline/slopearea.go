@@ -14,7 +14,7 @@ import (
 )
 
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
-	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--connected] [--no-extend] [--format text|json] [-o FILE]"
+	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--connected] [--no-extend] [--format text|json|xlsx] [-o FILE]"
 
 // slopeAreaFlags are the settings of a slope-area computation.
 type slopeAreaFlags struct {
@@ -44,7 +44,7 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
 	fs.BoolVar(&f.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
-	fs.StringVar(&f.format, "format", "", "output format: text or json (default: from the -o extension, else text)")
+	fs.StringVar(&f.format, "format", "", "output format: text, json or xlsx (a results workbook with the inputs, checks, uncertainty and figures; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	for _, name := range []string{"mark-spread", "mark-sd"} {
 		fs.Lookup(name).DefValue = "" // the unit's default, stated in the usage text
@@ -86,16 +86,19 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if fs.NArg() != 1 {
 		return usagef("slopearea: want one REACH table, got %d arguments", fs.NArg())
 	}
-	format, err := outputFormat(f.format, f.output, "text", "json")
+	format, err := outputFormat(f.format, f.output, "text", "json", "xlsx")
 	if err != nil {
 		return err
+	}
+	if format == "xlsx" && f.output == "" {
+		return usagef("slopearea: an xlsx workbook needs -o FILE.xlsx")
 	}
 	rep, inputs, err := slopeArea(fs.Arg(0), &f)
 	if err != nil {
 		return err
 	}
 	var figs []figureFile
-	if f.plots != "" {
+	if f.plots != "" || format == "xlsx" {
 		// Figures are drawn in memory first: a drawing error writes nothing.
 		var w []string
 		if figs, w, err = slopeAreaFigures(rep, f.site); err != nil {
@@ -103,7 +106,14 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Warnings = append(rep.Warnings, w...)
 	}
+	plotFigs := figs // written as files only with --plots
+	if f.plots == "" {
+		plotFigs = nil
+	}
 	write := func(w io.Writer) error {
+		if format == "xlsx" {
+			return survey.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
+		}
 		if format == "json" {
 			return survey.WriteSlopeAreaJSON(w, rep)
 		}
@@ -113,7 +123,7 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		if err := write(e.stdout); err != nil {
 			return err
 		}
-		if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
+		if err := writeFigures(e.stderr, f.plots, plotFigs, inputs); err != nil {
 			return err
 		}
 		if format == "json" {
@@ -124,7 +134,7 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if err := survey.WriteFile(f.output, inputs, write); err != nil {
 		return err
 	}
-	if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
+	if err := writeFigures(e.stderr, f.plots, plotFigs, inputs); err != nil {
 		return err
 	}
 	summarizeSlopeArea(e.stderr, rep, f.output)
@@ -224,3 +234,12 @@ func summarizeSlopeArea(w io.Writer, rep survey.SlopeAreaReport, path string) {
 }
 
 func saNaN() float64 { return math.NaN() }
+
+// pictures turns figures into workbook pictures captioned by what they show.
+func pictures(figs []figureFile) []survey.Picture {
+	out := make([]survey.Picture, len(figs))
+	for i, f := range figs {
+		out[i] = survey.Picture{Name: f.what, PNG: f.data}
+	}
+	return out
+}

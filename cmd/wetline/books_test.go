@@ -1,0 +1,567 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+	"wetline/survey"
+)
+
+// bookSheet is a sheet of a results workbook read back: raw cell values
+// by row, padded to the header's width, and the file for styles.
+type bookSheet struct {
+	f    *excelize.File
+	name string
+	rows [][]string
+}
+
+// openBook opens a written workbook with raw (unformatted) cell values.
+func openBook(t *testing.T, path string) *excelize.File {
+	t.Helper()
+	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { f.Close() })
+	return f
+}
+
+func readSheet(t *testing.T, f *excelize.File, name string) bookSheet {
+	t.Helper()
+	rows, err := f.GetRows(name)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) == 0 {
+		t.Fatalf("sheet %q is empty", name)
+	}
+	w := len(rows[0])
+	for i := range rows {
+		for len(rows[i]) < w {
+			rows[i] = append(rows[i], "")
+		}
+	}
+	return bookSheet{f, name, rows}
+}
+
+// col returns the 0-based index of the column whose header starts with
+// name, failing the test when there is none.
+func (s bookSheet) col(t *testing.T, name string) int {
+	t.Helper()
+	for i, h := range s.rows[0] {
+		if h == name || strings.HasPrefix(h, name+" (") {
+			return i
+		}
+	}
+	t.Fatalf("sheet %q: no column %q in %q", s.name, name, s.rows[0])
+	return -1
+}
+
+// num parses the cell at data row i (0-based, after the header), column c.
+func (s bookSheet) num(t *testing.T, i, c int) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(s.rows[i+1][c], 64)
+	if err != nil {
+		t.Fatalf("sheet %q row %d column %d: %q is not a number", s.name, i+2, c+1, s.rows[i+1][c])
+	}
+	return v
+}
+
+// style returns the fill colour and number format code of a cell.
+func (s bookSheet) style(t *testing.T, i, c int) (fill, format string) {
+	t.Helper()
+	cell, _ := excelize.CoordinatesToCellName(c+1, i+2)
+	id, err := s.f.GetCellStyle(s.name, cell)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := s.f.GetStyle(id)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(st.Fill.Color) > 0 {
+		fill = st.Fill.Color[0]
+	}
+	if st.CustomNumFmt != nil {
+		format = *st.CustomNumFmt
+	}
+	return fill, format
+}
+
+// summary returns the summary sheet's values by item (the last of a
+// repeated item).
+func summary(t *testing.T, f *excelize.File) map[string]string {
+	t.Helper()
+	s := readSheet(t, f, survey.SheetSummary)
+	out := map[string]string{}
+	for _, r := range s.rows[1:] {
+		out[r[0]] = r[1]
+	}
+	return out
+}
+
+// relClose: values written to a workbook keep 15 significant digits
+// (excelize writes floats so; see ../shared/LIBRARY-NOTES.md), so a cell
+// read back is within this relative distance of the value written.
+const relClose = 1e-13
+
+func closeTo(a, b, rel float64) bool {
+	return a == b || math.Abs(a-b) <= rel*math.Max(math.Abs(a), math.Abs(b))
+}
+
+// ruleTol is how far the lookup rule evaluated in the test (the power law
+// written out, and a rating computed at one stage) may differ from the
+// program's, relative: round-off only.
+const ruleTol = 1e-10
+
+// fitReport is the JSON form of the demo fit, for checking the workbook.
+type fitReport struct {
+	Segments []struct {
+		From float64 `json:"from_stage"`
+		To   float64 `json:"to_stage"`
+		C    float64 `json:"coefficient"`
+		E    float64 `json:"zero_flow_stage"`
+		B    float64 `json:"exponent"`
+	}
+	SEPercent float64 `json:"standard_error_percent"`
+	Gaugings  []struct {
+		Stage, Discharge, Fitted float64
+		Departure                float64 `json:"departure_percent"`
+		Excluded                 bool
+	}
+	Extrapolation struct {
+		Scale float64 `json:"scale_factor"`
+	}
+	Table []struct {
+		Stage, Discharge float64
+		Extrapolated     bool
+	}
+	Caution string
+}
+
+// TestFitResultsWorkbook: fit -o results.xlsx holds the fit, the
+// residuals, the fitted table with extrapolated rows marked, and the
+// lookup sheet whose every cell is the table's rule at that stage.
+func TestFitResultsWorkbook(t *testing.T) {
+	args := []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}
+	out, _, err := fitRun(t, append(args, "--format", "json")...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep fitReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "results.xlsx")
+	if _, errs, err := fitRun(t, append(args, "-o", path)...); err != nil || !strings.Contains(errs, "wrote "+path) {
+		t.Fatalf("%v: %s", err, errs)
+	}
+	f := openBook(t, path)
+	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetFitTable, survey.SheetLookup, survey.SheetNByStage, survey.SheetPlots}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Fatalf("sheets %q, want %q", got, want)
+	}
+
+	sum := summary(t, f)
+	for item, want := range map[string]string{"caution": survey.Caution, "program": "wetline " + Version, "gaugings": strconv.Itoa(len(rep.Gaugings))} {
+		if sum[item] != want {
+			t.Errorf("summary %q = %q, want %q", item, sum[item], want)
+		}
+	}
+	for item, want := range map[string]float64{"standard error of estimate": rep.SEPercent, "extrapolation scale factor": rep.Extrapolation.Scale,
+		"segment 1: exponent b": rep.Segments[0].B, "gauge height of zero flow e": rep.Segments[0].E} {
+		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
+			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
+		}
+	}
+	for _, item := range []string{"segment 1: standard error of C", "calibration factor on every subsection's n", "extrapolation", "standard error of e"} {
+		if sum[item] == "" {
+			t.Errorf("summary lacks %q", item)
+		}
+	}
+
+	g := readSheet(t, f, survey.SheetGaugings)
+	if len(g.rows)-1 != len(rep.Gaugings) {
+		t.Fatalf("%d gauging rows, want %d", len(g.rows)-1, len(rep.Gaugings))
+	}
+	cq, cf, cd, ct := g.col(t, "discharge"), g.col(t, "fitted"), g.col(t, "departure"), g.col(t, "time")
+	g.col(t, "hydraulic")
+	g.col(t, "outside_band")
+	g.col(t, "n")
+	low, high := math.Inf(1), math.Inf(-1)
+	for i, jg := range rep.Gaugings {
+		if !closeTo(g.num(t, i, cq), jg.Discharge, relClose) || !closeTo(g.num(t, i, cf), jg.Fitted, relClose) || !closeTo(g.num(t, i, cd), jg.Departure, relClose) {
+			t.Errorf("gauging %d: %q, want %+v", i+1, g.rows[i+1], jg)
+		}
+		if !jg.Excluded {
+			low, high = min(low, jg.Stage), max(high, jg.Stage)
+		}
+	}
+	if _, format := g.style(t, 0, ct); format != survey.FormatDateTime {
+		t.Errorf("time format %q", format)
+	}
+	if _, format := g.style(t, 0, g.col(t, "stage")); format != "0.000" {
+		t.Errorf("stage format %q", format)
+	}
+
+	ft := readSheet(t, f, survey.SheetFitTable)
+	if len(ft.rows)-1 != len(rep.Table) {
+		t.Fatalf("%d table rows, want %d", len(ft.rows)-1, len(rep.Table))
+	}
+	cs, cq, cx := ft.col(t, "stage"), ft.col(t, "discharge"), ft.col(t, "extrapolated")
+	table := map[float64]float64{}
+	marked := 0
+	for i, jr := range rep.Table {
+		if !closeTo(ft.num(t, i, cs), jr.Stage, relClose) || !closeTo(ft.num(t, i, cq), jr.Discharge, relClose) {
+			t.Errorf("table row %d: %q, want %+v", i+1, ft.rows[i+1], jr)
+		}
+		fill, format := ft.style(t, i, cq)
+		if x := ft.rows[i+1][cx]; (x == "yes") != jr.Extrapolated || (fill == survey.MarkFill) != jr.Extrapolated {
+			t.Errorf("table row %d (stage %g): extrapolated %q, fill %q, want %v", i+1, jr.Stage, x, fill, jr.Extrapolated)
+		}
+		if format == "" && jr.Discharge != 0 {
+			t.Errorf("table row %d: discharge without a number format", i+1)
+		}
+		if jr.Extrapolated {
+			marked++
+		}
+		table[jr.Stage] = jr.Discharge
+	}
+	if marked == 0 || marked == len(rep.Table) {
+		t.Errorf("%d of %d rows extrapolated", marked, len(rep.Table))
+	}
+
+	// The rule, evaluated here independently: Q = C·(h − e)^b on the
+	// segment holding h (below the lowest gauging too), and above the
+	// highest gauging the hydraulic rating at elevation h + datum times the
+	// scale factor (Kennedy, 1984, USGS TWRI 3-A10, as the table's doc
+	// says).
+	l, err := (&sectionFlags{units: "si"}).load(fitDemoSurvey)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rule := func(h float64) float64 {
+		if h > high {
+			tab, err := rating.Compute(l.geom, []float64{h + 100}, rating.Options{Slope: 0.0012, Units: rating.SI, Geometry: l.geomOpt})
+			if err != nil {
+				t.Fatal(err)
+			}
+			return rep.Extrapolation.Scale * tab.Rows[0].Discharge
+		}
+		s := rep.Segments[0]
+		for _, seg := range rep.Segments {
+			if h >= seg.From {
+				s = seg
+			}
+		}
+		if !(h > s.E) {
+			return 0
+		}
+		return s.C * math.Pow(h-s.E, s.B)
+	}
+	lk := readSheet(t, f, survey.SheetLookup)
+	if lk.rows[0][0] != "stage (m)" || lk.rows[0][1] != "+0.00 (m)" || lk.rows[0][10] != "+0.09 (m)" {
+		t.Errorf("lookup header %q", lk.rows[0])
+	}
+	cells, onTable := 0, 0
+	e := rep.Segments[0].E
+	for i := range len(lk.rows) - 1 {
+		tenth := math.Round(lk.num(t, i, 0) * 10)
+		for j := 1; j <= 10; j++ {
+			h := (tenth*10 + float64(j-1)) / 100
+			if lk.rows[i+1][j] == "" {
+				if h >= e && h <= rep.Table[len(rep.Table)-1].Stage {
+					t.Errorf("lookup: no cell at stage %.2f", h)
+				}
+				continue
+			}
+			cells++
+			got := lk.num(t, i, j)
+			if want := rule(h); !closeTo(got, want, ruleTol) {
+				t.Errorf("lookup at %.2f: %.9g, want %.9g", h, got, want)
+			}
+			if q, ok := table[h]; ok {
+				onTable++
+				if !closeTo(got, q, relClose) {
+					t.Errorf("lookup at %.2f: %g, the fitted rating sheet %g", h, got, q)
+				}
+			}
+			fill, format := lk.style(t, i, j)
+			if ext := h < low || h > high; (fill == survey.MarkFill) != ext {
+				t.Errorf("lookup at %.2f: fill %q, extrapolated %v", h, fill, ext)
+			}
+			if format == "" {
+				t.Errorf("lookup at %.2f: no number format", h)
+			}
+		}
+	}
+	if cells < 100 || onTable < 5 {
+		t.Errorf("%d lookup cells, %d on table stages", cells, onTable)
+	}
+
+	nb := readSheet(t, f, survey.SheetNByStage)
+	if len(nb.rows)-1 != len(rep.Gaugings) {
+		t.Errorf("%d n rows, want %d", len(nb.rows)-1, len(rep.Gaugings))
+	}
+	for i := range len(nb.rows) - 1 {
+		if n := nb.num(t, i, nb.col(t, "n")); !(n > 0.005 && n < 0.5) {
+			t.Errorf("n by stage row %d: n = %g", i+1, n)
+		}
+	}
+	if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != 1 {
+		t.Errorf("plots: %v pictures, %v", pics, err)
+	}
+	// The gaugings sheet has the columns of a field workbook's: it reads
+	// back as gaugings.
+	back, err := survey.ReadGaugings(path, survey.SheetGaugings)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(back.Gaugings) != len(rep.Gaugings) {
+		t.Fatalf("%d gaugings read back, want %d", len(back.Gaugings), len(rep.Gaugings))
+	}
+	for i, bg := range back.Gaugings {
+		if jg := rep.Gaugings[i]; !closeTo(bg.Stage, jg.Stage, relClose) || !closeTo(bg.Discharge, jg.Discharge, relClose) {
+			t.Errorf("gauging %d read back as %+v, want %+v", i+1, bg, jg)
+		}
+	}
+}
+
+// TestFitWorkbookComparisonOnly: --compare-only has no fit, so the
+// workbook has no fitted table or lookup sheet, but the gaugings against
+// the hydraulic rating.
+func TestFitWorkbookComparisonOnly(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "compare.xlsx")
+	if _, errs, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--compare-only", "-o", path); err != nil {
+		t.Fatalf("%v: %s", err, errs)
+	}
+	f := openBook(t, path)
+	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetNByStage, survey.SheetPlots}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Errorf("sheets %q, want %q", got, want)
+	}
+	g := readSheet(t, f, survey.SheetGaugings)
+	g.col(t, "hydraulic_departure")
+	if s := summary(t, f); s["caution"] != survey.Caution || !strings.Contains(s["method"], "comparison") {
+		t.Errorf("summary %q", s)
+	}
+}
+
+// TestFitWorkbookErrors: xlsx needs -o; bad gaugings write no workbook.
+func TestFitWorkbookErrors(t *testing.T) {
+	var ue usageError
+	if _, _, err := fitRun(t, "fit", fitDemoGaugings, "--format", "xlsx"); !errors.As(err, &ue) {
+		t.Errorf("xlsx without -o: %v, want a usage error", err)
+	}
+	dir := t.TempDir()
+	in := filepath.Join(dir, "bad.csv")
+	if err := os.WriteFile(in, []byte("time,stage,discharge\n2024-01-01,1,3\n2024-01-02,1.2,-4\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "results.xlsx")
+	if _, _, err := fitRun(t, "fit", in, "-o", out); err == nil || !strings.Contains(err.Error(), "bad.csv:3:3") {
+		t.Errorf("bad gaugings: %v", err)
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("workbook written despite the error")
+	}
+}
+
+// saReport is the JSON form of a slope-area report, for checking the
+// workbook.
+type saReport struct {
+	Discharge float64
+	Sections  []struct {
+		ID           string
+		WaterSurface float64 `json:"water_surface"`
+		Conveyance   float64
+		Froude       float64
+		WSLeft       float64 `json:"ws_left"`
+	}
+	Subreaches []struct {
+		From, To  string
+		Discharge float64
+	}
+	Checks []struct {
+		Name        string
+		Value       float64
+		Limit       float64
+		Pass        bool
+		Status      string
+		Source      string
+		Relation    string
+		LimitIsNull bool `json:"-"`
+	}
+	Uncertainty struct{ P05, P50, P95 float64 }
+}
+
+// TestSlopeAreaResultsWorkbook: slopearea -o report.xlsx holds the
+// summary, the inputs, sections, subreaches, checks and uncertainty with
+// the report's numbers, and both figures.
+func TestSlopeAreaResultsWorkbook(t *testing.T) {
+	args := []string{"slopearea", "demodata/reach-brindle.csv", "--draws", "300", "--seed", "7"}
+	out, errs, code := saRun(t, append(args, "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var rep saReport
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "report.xlsx")
+	if _, errs, code := saRun(t, append(args, "-o", path)...); code != 0 || !strings.Contains(errs, "wrote "+path) {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f := openBook(t, path)
+	want := []string{survey.SheetSummary, survey.SheetReachInputs, survey.SheetSections, survey.SheetSubreaches,
+		survey.SheetChecks, survey.SheetUncertainty, survey.SheetPlots}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Fatalf("sheets %q, want %q", got, want)
+	}
+	sum := summary(t, f)
+	for item, want := range map[string]float64{"peak discharge": rep.Discharge, "5th percentile": rep.Uncertainty.P05,
+		"median": rep.Uncertainty.P50, "95th percentile": rep.Uncertainty.P95} {
+		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
+			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
+		}
+	}
+	if sum["caution"] != survey.Caution || sum["program"] != "wetline "+Version || !strings.Contains(sum["method"], "Dalrymple") ||
+		sum["reach length"] == "" || sum["fall"] == "" || !strings.Contains(sum["units"], "m3/s") {
+		t.Errorf("summary %q", sum)
+	}
+	ss := readSheet(t, f, survey.SheetSummary)
+	for i, r := range ss.rows[1:] {
+		if r[0] == "peak discharge" {
+			if _, format := ss.style(t, i, 1); format == "" {
+				t.Errorf("peak discharge without a number format")
+			}
+		}
+	}
+
+	in := readSheet(t, f, survey.SheetReachInputs)
+	for _, name := range []string{"section", "survey", "distance", "ws_left", "ws_right", "quality", "note"} {
+		in.col(t, name)
+	}
+	sec := readSheet(t, f, survey.SheetSections)
+	sub := readSheet(t, f, survey.SheetSubreaches)
+	if len(in.rows)-1 != len(rep.Sections) || len(sec.rows)-1 != len(rep.Sections) || len(sub.rows)-1 != len(rep.Subreaches) {
+		t.Fatalf("rows: inputs %d, sections %d, subreaches %d", len(in.rows)-1, len(sec.rows)-1, len(sub.rows)-1)
+	}
+	for i, s := range rep.Sections {
+		if in.rows[i+1][0] != s.ID || sec.rows[i+1][0] != s.ID || !closeTo(in.num(t, i, in.col(t, "ws_left")), s.WSLeft, relClose) ||
+			!closeTo(sec.num(t, i, sec.col(t, "conveyance")), s.Conveyance, relClose) ||
+			!closeTo(sec.num(t, i, sec.col(t, "froude")), s.Froude, relClose) ||
+			!closeTo(sec.num(t, i, sec.col(t, "water_surface")), s.WaterSurface, relClose) {
+			t.Errorf("section %s: inputs %q, sections %q", s.ID, in.rows[i+1], sec.rows[i+1])
+		}
+	}
+	if _, format := sec.style(t, 0, sec.col(t, "water_surface")); format != "0.000" {
+		t.Errorf("water surface format %q", format)
+	}
+	for i, s := range rep.Subreaches {
+		if sub.rows[i+1][0] != s.From || !closeTo(sub.num(t, i, sub.col(t, "discharge")), s.Discharge, relClose) {
+			t.Errorf("subreach %d: %q, want %+v", i+1, sub.rows[i+1], s)
+		}
+	}
+
+	ch := readSheet(t, f, survey.SheetChecks)
+	if len(ch.rows)-1 != len(rep.Checks) {
+		t.Fatalf("%d check rows, want %d", len(ch.rows)-1, len(rep.Checks))
+	}
+	warned := 0
+	for i, c := range rep.Checks {
+		row := ch.rows[i+1]
+		if row[0] != c.Name || row[ch.col(t, "status")] != c.Status || row[ch.col(t, "source")] != c.Source ||
+			!closeTo(ch.num(t, i, ch.col(t, "value")), c.Value, relClose) {
+			t.Errorf("check %d: %q, want %+v", i+1, row, c)
+		}
+		if fill, _ := ch.style(t, i, ch.col(t, "status")); (fill == survey.MarkFill) != !c.Pass {
+			t.Errorf("check %q: fill %q, pass %v", c.Name, fill, c.Pass)
+		}
+		if !c.Pass {
+			warned++
+		}
+	}
+	if warned == 0 {
+		t.Log("no check warns on the demo reach: the marked style is not exercised")
+	}
+
+	un := readSheet(t, f, survey.SheetUncertainty)
+	got := map[string]string{}
+	for _, r := range un.rows[1:] {
+		got[r[0]+"|"+r[1]] = r[2]
+	}
+	for key, want := range map[string]float64{"discharge, 5th percentile|": rep.Uncertainty.P05, "discharge, median|": rep.Uncertainty.P50,
+		"discharge, 95th percentile|": rep.Uncertainty.P95} {
+		if v, err := strconv.ParseFloat(got[key], 64); err != nil || !closeTo(v, want, relClose) {
+			t.Errorf("uncertainty %q = %q, want %g", key, got[key], want)
+		}
+	}
+	for _, s := range rep.Sections {
+		if got["dQ/dh, this water surface alone|"+s.ID] == "" {
+			t.Errorf("uncertainty lacks dQ/dh at %s", s.ID)
+		}
+	}
+	if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != 2 {
+		t.Errorf("plots: %v pictures, %v", pics, err)
+	}
+}
+
+// TestSlopeAreaWorkbookErrors: xlsx needs -o; a bad reach writes no
+// workbook.
+func TestSlopeAreaWorkbookErrors(t *testing.T) {
+	if _, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "--format", "xlsx"); code != 2 || !strings.Contains(errs, "-o FILE.xlsx") {
+		t.Errorf("xlsx without -o: exit %d %s", code, errs)
+	}
+	dir := t.TempDir()
+	for name, text := range map[string]string{
+		"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,\nB,a.csv,100,11.2,\n",
+		"a.csv":     "station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n",
+	} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	out := filepath.Join(dir, "report.xlsx")
+	if _, errs, code := saRun(t, "slopearea", filepath.Join(dir, "reach.csv"), "-o", out); code != 1 || !strings.Contains(errs, "must fall") {
+		t.Errorf("rising water surface: exit %d %s", code, errs)
+	}
+	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("workbook written despite the error")
+	}
+}
+
+// TestDemoWritesResultsWorkbooks: the demo writes the fit and slope-area
+// workbooks, each with its figures.
+func TestDemoWritesResultsWorkbooks(t *testing.T) {
+	dir := t.TempDir()
+	out, errs, code := saRun(t, "demo", "-o", dir)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, tc := range []struct {
+		name, sheet string
+		pictures    int
+	}{{"tallow-fit.xlsx", survey.SheetLookup, 1}, {"reach-brindle-slopearea.xlsx", survey.SheetChecks, 2}} {
+		if !strings.Contains(out, tc.name) {
+			t.Errorf("demo does not list %s", tc.name)
+		}
+		f := openBook(t, filepath.Join(dir, tc.name))
+		if !slices.Contains(f.GetSheetList(), tc.sheet) {
+			t.Errorf("%s: no %s sheet in %q", tc.name, tc.sheet, f.GetSheetList())
+		}
+		if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != tc.pictures {
+			t.Errorf("%s: %v pictures, %v", tc.name, pics, err)
+		}
+	}
+}

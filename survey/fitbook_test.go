@@ -1,0 +1,188 @@
+package survey_test
+
+import (
+	"bytes"
+	"math"
+	"slices"
+	"strconv"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+	"wetline/survey"
+)
+
+// openWritten opens a workbook written to a buffer, with raw cell values.
+func openWritten(t *testing.T, buf *bytes.Buffer) *excelize.File {
+	t.Helper()
+	f, err := excelize.OpenReader(bytes.NewReader(buf.Bytes()), excelize.Options{RawCellValue: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { f.Close() })
+	return f
+}
+
+// cellFill returns a cell's fill colour ("" for none).
+func cellFill(t *testing.T, f *excelize.File, sheet, cell string) string {
+	t.Helper()
+	id, err := f.GetCellStyle(sheet, cell)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := f.GetStyle(id)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(st.Fill.Color) == 0 {
+		return ""
+	}
+	return st.Fill.Color[0]
+}
+
+// Marked lookup cells take the marked style whatever their row; others
+// keep the shading of every other row; a stage not on a hundredth is
+// ignored and a hundredth without a cell is blank.
+func TestWriteLookupCellsMarked(t *testing.T) {
+	var cells []survey.LookupCell
+	for k := 95; k <= 123; k++ {
+		h := float64(k) / 100
+		cells = append(cells, survey.LookupCell{Stage: h, Discharge: float64(k), Marked: k < 97 || k > 120})
+	}
+	cells = append(cells, survey.LookupCell{Stage: 1.234, Discharge: -1, Marked: true}) // not on a hundredth
+	b := survey.NewBook()
+	defer b.Close()
+	if err := survey.WriteLookupCells(b, "lookup", rating.SI, cells); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := b.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	f := openWritten(t, &buf)
+	rows, err := f.GetRows("lookup")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 5 || rows[1][0] != "0.9" || rows[4][0] != "1.2" { // header, 0.9, 1.0, 1.1, 1.2
+		t.Fatalf("rows %q", rows)
+	}
+	for r := 1; r < len(rows); r++ {
+		tenth, _ := strconv.ParseFloat(rows[r][0], 64)
+		for j := 1; j <= 10; j++ {
+			k := int(math.Round(tenth*100)) + j - 1
+			cell, _ := excelize.CoordinatesToCellName(j+1, r+1)
+			v := ""
+			if j < len(rows[r]) {
+				v = rows[r][j]
+			}
+			if k < 95 || k > 123 {
+				if v != "" {
+					t.Errorf("stage %d/100: %q, want blank", k, v)
+				}
+				continue
+			}
+			if v != strconv.Itoa(k) {
+				t.Errorf("stage %d/100: %q", k, v)
+			}
+			fill := cellFill(t, f, "lookup", cell)
+			banded := (k/10)%2 != 0 // every other row, as WriteLookupSheet
+			switch {
+			case k < 97 || k > 120:
+				if fill != survey.MarkFill {
+					t.Errorf("stage %d/100: fill %q, want the marked fill", k, fill)
+				}
+			case banded && (fill == "" || fill == survey.MarkFill), !banded && fill != "":
+				t.Errorf("stage %d/100: fill %q (banded row %v)", k, fill, banded)
+			}
+		}
+	}
+}
+
+// A fit without a section: no n by stage, no plots; the table ends at the
+// highest gauging; the lookup sheet follows the fitted power law, which
+// for noise-free gaugings is the law they were drawn from.
+func TestWriteFitWorkbookNoSection(t *testing.T) {
+	law := func(h float64) float64 { return 8 * math.Pow(h-0.3, 2) } // closed form, invented
+	var gs []rating.Gauging
+	t0 := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
+	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
+		gs = append(gs, rating.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: law(h), Quality: rating.Good})
+	}
+	rep, err := rating.GaugingsReport(gs, rating.ReportOptions{Site: "test", Units: rating.SI})
+	if err != nil {
+		t.Fatal(err)
+	}
+	cells, err := survey.FitLookupCells(rep, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := survey.WriteFitWorkbook(&buf, survey.FitWorkbook{Report: rep, Lookup: cells, Version: "test"}); err != nil {
+		t.Fatal(err)
+	}
+	f := openWritten(t, &buf)
+	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetFitTable, survey.SheetLookup}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Fatalf("sheets %q, want %q", got, want)
+	}
+	// Noise-free data: the fit recovers the law to about 1e-6 relative
+	// (the fit's own tests), so the lookup agrees to this tolerance.
+	const recovered = 1e-5
+	last := 0.0
+	for _, c := range cells {
+		if q := law(c.Stage); math.Abs(c.Discharge-q) > recovered*math.Max(q, 1e-3) {
+			t.Errorf("stage %.2f: %g, want %g", c.Stage, c.Discharge, q)
+		}
+		if c.Marked != (c.Stage < 0.5) {
+			t.Errorf("stage %.2f: marked %v", c.Stage, c.Marked)
+		}
+		last = c.Stage
+	}
+	if last != 2.0 {
+		t.Errorf("lookup ends at %g, want the highest gauging 2.0", last)
+	}
+	rows, err := f.GetRows(survey.SheetFitTable)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if l := rows[len(rows)-1]; l[0] != "2" || len(l) > 2 && l[2] != "" {
+		t.Errorf("last table row %q", l)
+	}
+}
+
+// A slope-area report without a Monte Carlo analysis or figures: no
+// uncertainty or plots sheet, and the summary says so.
+func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
+	rep := survey.SlopeAreaReport{Result: rating.SlopeArea{
+		Method: rating.MethodSlopeArea, Units: rating.SI, Discharge: 12.5, Fall: 0.2, Length: 100,
+		Sections:   []rating.ReachSectionResult{{ID: "A", WaterSurface: 10.2}, {ID: "B", Distance: 100, WaterSurface: 10}},
+		Subreaches: []rating.Subreach{{From: "A", To: "B", Length: 100, Fall: 0.2, Discharge: 12.5}},
+		Checks:     []rating.ReachCheck{{Name: "froude A", Value: 1.2, Limit: 1, Relation: "<", Source: "test"}},
+	}}
+	var buf bytes.Buffer
+	if err := survey.WriteSlopeAreaWorkbook(&buf, rep, nil); err != nil {
+		t.Fatal(err)
+	}
+	f := openWritten(t, &buf)
+	want := []string{survey.SheetSummary, survey.SheetReachInputs, survey.SheetSections, survey.SheetSubreaches, survey.SheetChecks}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Fatalf("sheets %q, want %q", got, want)
+	}
+	rows, _ := f.GetRows(survey.SheetSummary)
+	items := map[string]string{}
+	for _, r := range rows {
+		if len(r) > 1 {
+			items[r[0]] = r[1]
+		}
+	}
+	if items["peak discharge"] != "12.5" || items["band"] != "no Monte Carlo analysis was run" ||
+		items["caution"] != survey.Caution || items["indirect estimate"] != survey.IndirectNote || items["quality checks passed"] == "" {
+		t.Errorf("summary %q", items)
+	}
+	if fill := cellFill(t, f, survey.SheetChecks, "E2"); fill != survey.MarkFill {
+		t.Errorf("failed check: fill %q, want the marked fill", fill)
+	}
+}

@@ -1,0 +1,304 @@
+package survey
+
+import (
+	"fmt"
+	"io"
+	"math"
+
+	"wetline/rating"
+)
+
+// Sheet names of a slope-area results workbook besides SheetSummary and
+// SheetPlots.
+const (
+	SheetReachInputs = "inputs"
+	SheetSections    = "sections"
+	SheetSubreaches  = "subreaches"
+	SheetChecks      = "checks"
+	SheetUncertainty = "uncertainty"
+)
+
+// IndirectNote is stated by every slope-area report beside the caution.
+const IndirectNote = "Indirect estimates of a flood peak carry large uncertainty: review the marks, the n values and the checks."
+
+// WriteSlopeAreaWorkbook writes the results workbook of a slope-area
+// report to w, with pics (none: no plots sheet). Sheets:
+//
+//   - summary: the peak discharge and its band, the method and its source,
+//     the reach's length and fall, the units, the checks passed, the
+//     program version, the warnings and the caution;
+//   - inputs: the reach table as read (section, survey, distance, ws_left,
+//     ws_right, quality, note: the columns of a reach table) with the
+//     water surface taken from the marks;
+//   - sections: each section's hydraulics at the peak discharge;
+//   - subreaches: each pair of adjacent sections alone, and its losses at
+//     the peak discharge;
+//   - checks: each quality check's value, limit, pass or warn (warnings in
+//     the marked style) and source;
+//   - uncertainty: the Monte Carlo percentiles, settings and
+//     sensitivities, when run;
+//   - plots: the pictures.
+func WriteSlopeAreaWorkbook(w io.Writer, rep SlopeAreaReport, pics []Picture) error {
+	b := NewBook()
+	defer b.Close()
+	b.Title = "wetline slope-area: " + saReachName(rep)
+	for _, write := range []func(*Book, SlopeAreaReport) error{
+		writeSASummary, writeSAInputs, writeSASections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
+	} {
+		if err := write(b, rep); err != nil {
+			return err
+		}
+	}
+	if len(pics) > 0 {
+		if err := b.Pictures(SheetPlots, pics); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// saReachName names the reach table read ("" when built in code).
+func saReachName(rep SlopeAreaReport) string {
+	if rep.Reach == nil {
+		return "reach"
+	}
+	return (&ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+}
+
+func writeSASummary(b *Book, rep SlopeAreaReport) error {
+	r := rep.Result
+	u := r.Units
+	L, Q := u.Length(), u.Discharge()
+	version := rep.Version
+	if version == "" {
+		version = "unknown"
+	}
+	var err error
+	num := func(format string, v float64) any {
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil
+		}
+		if format == FormatSig3 {
+			format = decimalsFormat(Sig3Decimals(v))
+		}
+		id, e := b.Style(format)
+		if e != nil {
+			err = e
+		}
+		return Styled{id, v}
+	}
+	items := []SummaryItem{
+		{"reach table", saReachName(rep), ""},
+		{"program", "wetline " + version, ""},
+		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), ""},
+		{"peak discharge", num(FormatSig3, r.Discharge), Q},
+	}
+	add := func(item string, v any, unit string) { items = append(items, SummaryItem{item, v, unit}) }
+	if un := rep.Uncertainty; un != nil {
+		add("5th percentile", num(FormatSig3, un.P05), Q)
+		add("median", num(FormatSig3, un.P50), Q)
+		add("95th percentile", num(FormatSig3, un.P95), Q)
+		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %d draws (%d without a solution), seed %d: see the uncertainty sheet", un.Draws, un.Failed, un.Seed), "")
+	} else {
+		add("band", "no Monte Carlo analysis was run", "")
+	}
+	switch r.Method {
+	case rating.MethodSlopeArea:
+		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
+		add("reach length", num("0.0", r.Length), L)
+		add("fall", num("0.000", r.Fall), L)
+		add("least subreach discharge", num(FormatSig3, r.SubreachMin), Q)
+		add("greatest subreach discharge", num(FormatSig3, r.SubreachMax), Q)
+		add("subreach spread", num("0.0", 100*r.SubreachSpread), "% of the peak")
+	default:
+		add("method", "single-section slope-conveyance Q = K·√S with an assumed slope: a weaker method, no measured fall", "")
+		add("slope assumed", num("0.######", r.Slope), L+"/"+L)
+	}
+	add("water surface from", saSideWords(r.Side)+" marks", "")
+	add("sections", len(r.Sections), "")
+	pass := 0
+	for _, c := range r.Checks {
+		if c.Pass {
+			pass++
+		}
+	}
+	add("quality checks passed", fmt.Sprintf("%d of %d (see the checks sheet)", pass, len(r.Checks)), "")
+	add("indirect estimate", IndirectNote, "")
+	if err != nil {
+		return err
+	}
+	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
+}
+
+func writeSAInputs(b *Book, rep SlopeAreaReport) error {
+	L := rep.Result.Units.Length()
+	s, err := b.Table(SheetReachInputs, []Column{
+		{Name: "section", Width: 12},
+		{Name: "survey", Width: 24},
+		{Name: "distance", Unit: L, Format: "0.0"},
+		{Name: "ws_left", Unit: L, Format: "0.000"},
+		{Name: "ws_right", Unit: L, Format: "0.000"},
+		{Name: "quality", Width: 10},
+		{Name: "note", Width: 30},
+		{Name: "water_surface", Unit: L, Format: "0.000"},
+		{Name: "marks_used", Format: "0"},
+	})
+	if err != nil {
+		return err
+	}
+	for i, sec := range rep.Result.Sections {
+		vals := []any{sec.ID, nil, sec.Distance, sec.Left, sec.Right, nil, nil, sec.WaterSurface, sec.MarksUsed}
+		if rep.Reach != nil && i < len(rep.Reach.Rows) {
+			rr := rep.Reach.Rows[i]
+			vals[1], vals[5], vals[6] = rr.Survey, rr.Quality, rr.Note
+		}
+		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+func writeSASections(b *Book, rep SlopeAreaReport) error {
+	u := rep.Result.Units
+	L := u.Length()
+	s, err := b.Table(SheetSections, []Column{
+		{Name: "section", Width: 12},
+		{Name: "distance", Unit: L, Format: "0.0"},
+		{Name: "water_surface", Unit: L, Format: "0.000"},
+		{Name: "thalweg", Unit: L, Format: "0.000"},
+		{Name: "area", Unit: u.Area(), Format: FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "alpha", Format: "0.000"},
+		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
+		{Name: "velocity_head", Unit: L, Format: "0.000"},
+		{Name: "energy_grade", Unit: L, Format: "0.000"},
+		{Name: "froude", Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, sec := range rep.Result.Sections {
+		if err := s.Row(sec.ID, sec.Distance, sec.WaterSurface, sec.Bottom, sec.Area, sec.WettedPerimeter, sec.TopWidth,
+			sec.HydraulicDepth, sec.Conveyance, sec.Alpha, sec.Velocity, sec.VelocityHead, sec.EnergyGrade, sec.Froude); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+func writeSASubreaches(b *Book, rep SlopeAreaReport) error {
+	u := rep.Result.Units
+	L := u.Length()
+	s, err := b.Table(SheetSubreaches, []Column{
+		{Name: "from", Width: 12},
+		{Name: "to", Width: 12},
+		{Name: "length", Unit: L, Format: "0.0"},
+		{Name: "fall", Unit: L, Format: "0.000"},
+		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "flow", Width: 12},
+		{Name: "eddy_k", Format: "0.0"},
+		{Name: "friction_loss", Unit: L, Format: "0.000"},
+		{Name: "velocity_head_change", Unit: L, Format: "0.000"},
+		{Name: "eddy_loss", Unit: L, Format: "0.000"},
+		{Name: "conveyance_ratio", Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, sr := range rep.Result.Subreaches {
+		flow := "contracting"
+		if sr.Expanding {
+			flow = "expanding"
+		}
+		if err := s.Row(sr.From, sr.To, sr.Length, sr.Fall, sr.Discharge, flow, sr.EddyK,
+			sr.FrictionLoss, sr.VelocityHeadChange, sr.EddyLoss, sr.ConveyanceRatio); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+func writeSAChecks(b *Book, rep SlopeAreaReport) error {
+	cols := []Column{
+		{Name: "check", Width: 30},
+		{Name: "value", Format: FormatSig3},
+		{Name: "relation", Width: 10},
+		{Name: "limit", Format: FormatSig3},
+		{Name: "status", Width: 10},
+		{Name: "source", Width: 60},
+	}
+	s, err := b.Table(SheetChecks, cols)
+	if err != nil {
+		return err
+	}
+	ws, err := b.WrapStyle()
+	if err != nil {
+		return err
+	}
+	for _, c := range rep.Result.Checks {
+		vals := []any{c.Name, c.Value, c.Relation, c.Limit, c.Status(), Styled{ws, c.Source}}
+		if !c.Pass {
+			for i := range 5 { // the source keeps its wrapping
+				if vals[i], err = b.Marked(cols[i].Format, vals[i]); err != nil {
+					return err
+				}
+			}
+		}
+		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+func writeSAUncertainty(b *Book, rep SlopeAreaReport) error {
+	un := rep.Uncertainty
+	if un == nil {
+		return nil
+	}
+	r := rep.Result
+	u := r.Units
+	L, Q := u.Length(), u.Discharge()
+	s, err := b.Table(SheetUncertainty, []Column{
+		{Name: "quantity", Width: 40},
+		{Name: "section", Width: 12},
+		{Name: "value", Format: FormatSig3, Width: 14},
+		{Name: "unit", Width: 14},
+	})
+	if err != nil {
+		return err
+	}
+	rows := [][]any{
+		{"discharge, 5th percentile", nil, un.P05, Q},
+		{"discharge, median", nil, un.P50, Q},
+		{"discharge, 95th percentile", nil, un.P95, Q},
+		{"discharge, mean", nil, un.Mean, Q},
+		{"discharge, standard deviation", nil, un.SD, Q},
+		{"draws", nil, un.Draws, ""},
+		{"draws without a solution", nil, un.Failed, ""},
+		{"seed", nil, fmt.Sprint(un.Seed), ""},
+		{"coefficient of variation of n (log-normal)", nil, un.NCV, ""},
+		{"standard deviation of one mark (normal)", nil, un.MarkSD, L},
+		{"dQ/dn, every n together", nil, un.DQDN, Q + " per unit n"},
+	}
+	for i, sec := range r.Sections {
+		if i < len(un.WaterSurfaceSD) {
+			rows = append(rows, []any{"standard deviation of the water surface", sec.ID, un.WaterSurfaceSD[i], L})
+		}
+	}
+	for i, sec := range r.Sections {
+		if i < len(un.DQDH) {
+			rows = append(rows, []any{"dQ/dh, this water surface alone", sec.ID, un.DQDH[i], Q + " per " + L})
+		}
+	}
+	for _, row := range rows {
+		if err := s.Row(row...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
