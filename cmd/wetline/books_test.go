@@ -410,7 +410,7 @@ type saReport struct {
 // the report's numbers, and both figures.
 func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	args := []string{"slopearea", "demodata/reach-brindle.csv", "--draws", "300", "--seed", "7"}
-	out, errs, code := saRun(t, append(args, "--format", "json")...)
+	out, errs, code := runCLI(t, append(args, "--format", "json")...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -419,7 +419,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Fatal(err)
 	}
 	path := filepath.Join(t.TempDir(), "report.xlsx")
-	if _, errs, code := saRun(t, append(args, "-o", path)...); code != 0 || !strings.Contains(errs, "wrote "+path) {
+	if _, errs, code := runCLI(t, append(args, "-o", path)...); code != 0 || !strings.Contains(errs, "wrote "+path) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	f := openBook(t, path)
@@ -520,7 +520,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 // TestSlopeAreaWorkbookErrors: xlsx needs -o; a bad reach writes no
 // workbook.
 func TestSlopeAreaWorkbookErrors(t *testing.T) {
-	if _, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "--format", "xlsx"); code != 2 || !strings.Contains(errs, "-o FILE.xlsx") {
+	if _, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--format", "xlsx"); code != 2 || !strings.Contains(errs, "-o FILE.xlsx") {
 		t.Errorf("xlsx without -o: exit %d %s", code, errs)
 	}
 	dir := t.TempDir()
@@ -533,7 +533,7 @@ func TestSlopeAreaWorkbookErrors(t *testing.T) {
 		}
 	}
 	out := filepath.Join(dir, "report.xlsx")
-	if _, errs, code := saRun(t, "slopearea", filepath.Join(dir, "reach.csv"), "-o", out); code != 1 || !strings.Contains(errs, "must fall") {
+	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "-o", out); code != 1 || !strings.Contains(errs, "must fall") {
 		t.Errorf("rising water surface: exit %d %s", code, errs)
 	}
 	if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
@@ -545,7 +545,7 @@ func TestSlopeAreaWorkbookErrors(t *testing.T) {
 // workbooks, each with its figures.
 func TestDemoWritesResultsWorkbooks(t *testing.T) {
 	dir := t.TempDir()
-	out, errs, code := saRun(t, "demo", "-o", dir)
+	out, errs, code := runCLI(t, "demo", "-o", dir)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}

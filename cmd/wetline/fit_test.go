@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
-	"flag"
 	"image/png"
 	"math"
 	"os"
@@ -18,42 +17,12 @@ import (
 	"wetline/plotting"
 )
 
-func init() {
-	if flag.Lookup("update") == nil {
-		flag.Bool("update", false, "rewrite golden files")
-	}
-}
-
-// fitUpdating reports whether golden files are to be rewritten (-update).
-func fitUpdating() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
-
+// fitRun runs the program and returns stdout, stderr and run's error.
 func fitRun(t *testing.T, args ...string) (string, string, error) {
 	t.Helper()
 	var out, errb bytes.Buffer
 	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
 	return out.String(), errb.String(), err
-}
-
-// fitGolden compares got with testdata/name, or rewrites it with -update.
-func fitGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if fitUpdating() {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (run go test -update after checking):\n%s", path, got)
-	}
 }
 
 const (
@@ -77,7 +46,7 @@ func TestFitGolden(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			fitGolden(t, tc.name, out)
+			golden(t, tc.name, out)
 		})
 	}
 }

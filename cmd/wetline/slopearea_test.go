@@ -2,10 +2,8 @@ package main
 
 import (
 	"bytes"
-	"context"
 	"encoding/json"
 	"errors"
-	"flag"
 	"image/png"
 	"os"
 	"path/filepath"
@@ -17,51 +15,8 @@ import (
 	"wetline/survey"
 )
 
-func init() {
-	// Golden files are rewritten with go test -update; the flag may be
-	// defined by another test file of this package already.
-	if flag.Lookup("update") == nil {
-		flag.Bool("update", false, "rewrite golden files")
-	}
-}
-
-func saUpdating() bool {
-	f := flag.Lookup("update")
-	return f != nil && f.Value.String() == "true"
-}
-
-// saRun runs the program with buffers and returns stdout, stderr and
-// the exit status.
-func saRun(t *testing.T, args ...string) (string, string, int) {
-	t.Helper()
-	var out, errb bytes.Buffer
-	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
-	code := exitStatus(err, &errb)
-	return out.String(), errb.String(), code
-}
-
-func saGolden(t *testing.T, name, got string) {
-	t.Helper()
-	path := filepath.Join("testdata", name)
-	if saUpdating() {
-		if err := os.MkdirAll("testdata", 0o755); err != nil {
-			t.Fatal(err)
-		}
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("output differs from %s (go test -update rewrites it):\n%s", path, got)
-	}
-}
-
 func TestSlopeAreaTextGolden(t *testing.T) {
-	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv")
+	out, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -70,12 +25,12 @@ func TestSlopeAreaTextGolden(t *testing.T) {
 			t.Errorf("report lacks %q", want)
 		}
 	}
-	saGolden(t, "slopearea-brindle.golden", out)
+	golden(t, "slopearea-brindle.golden", out)
 }
 
 // The JSON form holds at least the fields of the published contract.
 func TestSlopeAreaJSONContract(t *testing.T) {
-	out, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
+	out, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -145,7 +100,7 @@ func TestSlopeAreaBadReach(t *testing.T) {
 			}
 			out := filepath.Join(dir, "out.json")
 			args := append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "-o", out}, tc.flags...)
-			stdout, stderr, code := saRun(t, args...)
+			stdout, stderr, code := runCLI(t, args...)
 			if code != tc.code {
 				t.Fatalf("exit %d, want %d: %s", code, tc.code, stderr)
 			}
@@ -171,7 +126,7 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 	dir := t.TempDir()
 	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,\n"), 0o644)
 	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
-	out, errs, code := saRun(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001")
+	out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -188,7 +143,7 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 func TestSlopeAreaOutputFile(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "report.json")
-	_, errs, code := saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
+	_, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -201,7 +156,7 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 	}
 	// Never over an input.
 	before, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
-	_, errs, code = saRun(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
+	_, errs, code = runCLI(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
 	after, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
 	if code != 1 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
 		t.Errorf("overwrite of an input: exit %d %s", code, errs)
@@ -210,7 +165,7 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 
 func TestDemoWritesSlopeArea(t *testing.T) {
 	dir := t.TempDir()
-	out, errs, code := saRun(t, "demo", "-o", dir)
+	out, errs, code := runCLI(t, "demo", "-o", dir)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
@@ -227,7 +182,7 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 		}
 	}
 	// The written reach reads back to the same discharge.
-	out2, _, code := saRun(t, "slopearea", filepath.Join(dir, "reach-brindle.csv"), "--format", "json", "--draws", "0")
+	out2, _, code := runCLI(t, "slopearea", filepath.Join(dir, "reach-brindle.csv"), "--format", "json", "--draws", "0")
 	var doc struct{ Discharge float64 }
 	if code != 0 || json.Unmarshal([]byte(out2), &doc) != nil || !(doc.Discharge > 0) {
 		t.Errorf("demo reach does not read back: %d %q", code, out2)

@@ -7,13 +7,6 @@ import (
 	"testing"
 )
 
-// runArgs runs the program with buffers and returns stdout, stderr and the
-// exit status.
-func runArgs(t *testing.T, args ...string) (string, string, int) {
-	t.Helper()
-	return runCLI(t, args...)
-}
-
 func TestSolveGolden(t *testing.T) {
 	tests := []struct {
 		name string
@@ -26,7 +19,7 @@ func TestSolveGolden(t *testing.T) {
 		{"solve-stage.txt", []string{"solve", "--shape", "rectangle:width=2", "--n", "0.015", "--stage", "0.5", "--slope", "0.001"}},
 	}
 	for _, tt := range tests {
-		out, errs, code := runArgs(t, tt.args...)
+		out, errs, code := runCLI(t, tt.args...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", tt.args, code, errs)
 		}
@@ -36,7 +29,7 @@ func TestSolveGolden(t *testing.T) {
 
 // TestSolveJSONContract checks the keys promised to scripts.
 func TestSolveJSONContract(t *testing.T) {
-	out, errs, code := runArgs(t, "solve", "--shape", "trapezoid:bottom=3,side=2", "--n", "0.025", "--slope", "0.0008", "--discharge", "12", "--format", "json")
+	out, errs, code := runCLI(t, "solve", "--shape", "trapezoid:bottom=3,side=2", "--n", "0.025", "--slope", "0.0008", "--discharge", "12", "--format", "json")
 	if code != 0 {
 		t.Fatal(errs)
 	}
@@ -75,7 +68,7 @@ func TestShapeUsageErrors(t *testing.T) {
 		{[]string{"shape", "circle:diameter=1"}, "closed conduit", 2},
 	}
 	for _, tt := range tests {
-		_, errs, code := runArgs(t, tt.args...)
+		_, errs, code := runCLI(t, tt.args...)
 		if code != tt.code || !strings.Contains(errs, tt.want) {
 			t.Errorf("%v: exit %d, stderr %q; want %d and %q", tt.args, code, errs, tt.code, tt.want)
 		}
@@ -95,14 +88,14 @@ func TestShapeSurveyRoundTrip(t *testing.T) {
 		if strings.HasPrefix(spec, "compound") {
 			n = "0.06,0.035,0.05"
 		}
-		if _, errs, code := runArgs(t, "shape", spec, "--n", n, "-o", path); code != 0 {
+		if _, errs, code := runCLI(t, "shape", spec, "--n", n, "-o", path); code != 0 {
 			t.Fatal(errs)
 		}
-		fromFile, errs, code := runArgs(t, "rate", path, "--slope", "0.001")
+		fromFile, errs, code := runCLI(t, "rate", path, "--slope", "0.001")
 		if code != 0 {
 			t.Fatal(errs)
 		}
-		fromShape, errs, code := runArgs(t, "rate", "--shape", spec, "--n", n, "--slope", "0.001")
+		fromShape, errs, code := runCLI(t, "rate", "--shape", spec, "--n", n, "--slope", "0.001")
 		if code != 0 {
 			t.Fatal(errs)
 		}
