@@ -21,6 +21,8 @@ var demoFiles embed.FS
 const (
 	demoSurvey = "tallow-xs1.csv"
 	demoSlope  = 0.0012 // water-surface slope of the invented reach, m/m
+	// demoSite titles the demo's figures.
+	demoSite = "Tallow Creek at Mill Lane (invented)"
 )
 
 const demoUsage = "demo -o DIR"

@@ -60,7 +60,7 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", f.name, f.what)
 	}
-	figs, w, err := fitFigures(rep, "Tallow Creek at Mill Lane footbridge (invented)", "tallow")
+	figs, w, err := fitFigures(rep, demoSite, "tallow")
 	if err != nil {
 		return err
 	}

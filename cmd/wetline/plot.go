@@ -212,7 +212,7 @@ func demoPlots(ctx context.Context, e *env, dir string) error {
 	if err != nil {
 		return err
 	}
-	figs, warnings, err := drawFigures(figureInput{site: "Tallow Creek at Mill Lane footbridge (invented demo site)",
+	figs, warnings, err := drawFigures(figureInput{site: demoSite,
 		base: strings.TrimSuffix(demoSurvey, filepath.Ext(demoSurvey)), table: t, loaded: l, zeroFlow: math.NaN(),
 		subtitle: "section XS-1 at the gauge"})
 	if err != nil {
