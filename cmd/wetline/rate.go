@@ -18,6 +18,7 @@ type rateFlags struct {
 	from, to, step float64
 	stages         []float64
 	format, output string
+	batch          batchFlags
 }
 
 const rateUsage = "rate SURVEY --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json] [-o FILE]"
@@ -26,6 +27,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
 	var f rateFlags
 	f.sectionFlags.register(fs)
+	f.batch.register(fs)
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
@@ -35,6 +37,9 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
+	}
+	if f.isBatch(fs.Args()) {
+		return runBatch(ctx, e, &f, fs.Args())
 	}
 	if fs.NArg() != 1 {
 		return usagef("rate: want one SURVEY file, got %d arguments", fs.NArg())
