@@ -248,3 +248,22 @@ func TestBatchRefusesInputs(t *testing.T) {
 		t.Errorf("index %v", idx)
 	}
 }
+
+// TestDemoBatch runs the demo and checks its batch step: the reach's three
+// sections rated without error, with bankfull discharges.
+func TestDemoBatch(t *testing.T) {
+	dir := t.TempDir()
+	var out bytes.Buffer
+	if err := runArgs(t, &env{stdout: &out, stderr: &out}, "demo", "-o", dir); err != nil {
+		t.Fatal(err, out.String())
+	}
+	idx := readCSV(t, filepath.Join(dir, "reach-ratings", "index.csv"))
+	if len(idx) != 1+len(demoReach) {
+		t.Fatalf("index %v", idx)
+	}
+	for _, r := range idx[1:] {
+		if r[len(r)-1] != "" || r[7] == "" {
+			t.Errorf("section %s: error %q, bankfull discharge %q", r[0], r[len(r)-1], r[7])
+		}
+	}
+}
