@@ -27,7 +27,7 @@ type batchFlags struct {
 
 func (b *batchFlags) register(fs *pflag.FlagSet) {
 	fs.BoolVar(&b.allSheets, "all-sheets", false, "rate every sheet of a workbook that holds a survey (a station and an elevation column)")
-	fs.BoolVar(&b.long, "long", false, "with several surveys: one long CSV table with a section column (to -o FILE or standard output) instead of a folder of tables")
+	fs.BoolVar(&b.long, "long", false, "with several surveys (files, folders, --all-sheets) -o names a folder for one table per section and an index; --long writes one long CSV table with a section column instead (to -o FILE or standard output)")
 }
 
 // isBatch reports whether rate was given several surveys: more than one

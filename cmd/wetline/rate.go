@@ -27,7 +27,6 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("rate", rateUsage)
 	var f rateFlags
 	f.sectionFlags.register(fs)
-	f.batch.register(fs)
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
@@ -35,6 +34,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.Float64SliceVar(&f.stages, "stages", nil, "explicit stages, comma-separated (instead of --from/--to/--step)")
 	fs.StringVar(&f.format, "format", "", "output format: csv or json (default: from the -o extension, else csv)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	f.batch.register(fs)
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
 	}
