@@ -63,20 +63,18 @@ func (p *Profile) Sweep(stages []float64, opt Options, fn StageFunc) error {
 		order = append(order, i)
 	}
 	slices.SortStableFunc(order, func(a, b int) int { return cmp.Compare(stages[a], stages[b]) })
-	sw := newSweeper(p, opt)
-	for _, i := range order {
-		w, err := sw.at(stages[i])
+	hs := make([]float64, len(order)) // shifted stages, ascending
+	for k, i := range order {
+		hs[k] = stages[i] - p.z0
+	}
+	sw := newSweeper(p, opt, hs)
+	for k, i := range order {
+		w, err := sw.at(k, stages[i])
 		if e := fn(i, w, err); e != nil {
 			return e
 		}
 	}
 	return nil
-}
-
-// endKey is a segment index with the elevation of one of its ends.
-type endKey struct {
-	z float64
-	i int32
 }
 
 // sweeper holds the state of one Sweep between stages.
@@ -92,17 +90,29 @@ type sweeper struct {
 	// and first moment about the surface.
 	subA, subT, subP    []float64
 	area, width, moment float64
-	byLow, byHigh       []endKey // segments by low and by high end
-	nLow, nHigh         int      // how many of each have been passed
-	partly              []int32  // partly wet segments, any order
-	slot                []int32  // index of a segment in partly, or -1
-	connected, chanWet  bool
-	left, right         int // Connected: dry points bounding the reach
-	subTemplate         []SubWetted
-	nv                  int // number of points
+	// Buckets by stage number k (compressed rows): segments that become
+	// partly wet at stage k are enter[enterAt[k]:enterAt[k+1]], those that
+	// become fully wet full[fullAt[k]:fullAt[k+1]], in increasing order.
+	enter, enterAt, full, fullAt []int32
+	partly                       []int32 // partly wet segments, any order
+	slot                         []int32 // index of a segment in partly, or -1
+	connected, chanWet           bool
+	left, right                  int // Connected: dry points bounding the reach
+	subTemplate                  []SubWetted
+	nv                           int // number of points
 }
 
-func newSweeper(p *Profile, opt Options) *sweeper {
+// newSweeper prepares a sweep over the shifted stages hs (ascending).
+//
+// Without Options.Connected every segment is put in the bucket of the
+// first stage that wets it and of the first that wets it fully. A point
+// at shifted elevation z is first wet at stage number k(z), the first k
+// with hs[k] > z; a segment is partly wet from min(k(z1), k(z2)) and
+// fully wet from max(k(z1), k(z2)). k(z) is found by a galloping search
+// from the neighbouring point's k, so on ground that changes gradually it
+// costs O(1) per point, and O(log M) at worst, for M stages; filling the
+// buckets is a counting sort, O(N + M).
+func newSweeper(p *Profile, opt Options, hs []float64) *sweeper {
 	n := len(p.xs)
 	s := &sweeper{
 		p: p, opt: opt,
@@ -114,21 +124,85 @@ func newSweeper(p *Profile, opt Options) *sweeper {
 	for i, sub := range p.subs {
 		s.subTemplate[i].Subsection = sub
 	}
-	if !opt.Connected {
-		s.byLow = make([]endKey, n-1)
-		s.byHigh = make([]endKey, n-1)
-		s.slot = make([]int32, n-1)
-		for i := 0; i < n-1; i++ {
-			z1, z2 := p.zs[i], p.zs[i+1]
-			s.byLow[i] = endKey{math.Min(z1, z2), int32(i)}
-			s.byHigh[i] = endKey{math.Max(z1, z2), int32(i)}
-			s.slot[i] = -1
+	if opt.Connected {
+		return s
+	}
+	m := len(hs)
+	kv := make([]int32, n) // stage number at which each point is first wet
+	k := 0
+	for j, z := range p.zs {
+		k = firstAbove(hs, z, k)
+		kv[j] = int32(k)
+	}
+	s.enterAt = make([]int32, m+2)
+	s.fullAt = make([]int32, m+2)
+	for i := 0; i < n-1; i++ {
+		lo, hi := min(kv[i], kv[i+1]), max(kv[i], kv[i+1])
+		if lo < hi {
+			s.enterAt[lo+2]++
 		}
-		byZ := func(a, b endKey) int { return cmp.Compare(a.z, b.z) }
-		slices.SortFunc(s.byLow, byZ)
-		slices.SortFunc(s.byHigh, byZ)
+		if int(hi) < m {
+			s.fullAt[hi+2]++
+		}
+	}
+	for k := 2; k < m+2; k++ {
+		s.enterAt[k] += s.enterAt[k-1]
+		s.fullAt[k] += s.fullAt[k-1]
+	}
+	s.enter = make([]int32, s.enterAt[m+1])
+	s.full = make([]int32, s.fullAt[m+1])
+	for i := 0; i < n-1; i++ {
+		lo, hi := min(kv[i], kv[i+1]), max(kv[i], kv[i+1])
+		if lo < hi {
+			s.enter[s.enterAt[lo+1]] = int32(i)
+			s.enterAt[lo+1]++
+		}
+		if int(hi) < m {
+			s.full[s.fullAt[hi+1]] = int32(i)
+			s.fullAt[hi+1]++
+		}
+	}
+	s.slot = make([]int32, n-1)
+	for i := range s.slot {
+		s.slot[i] = -1
 	}
 	return s
+}
+
+// firstAbove returns the first index k with hs[k] > z (len(hs) if none),
+// searching outward from the guess k0.
+func firstAbove(hs []float64, z float64, k0 int) int {
+	m := len(hs)
+	k0 = min(k0, m)
+	// Bracket the answer in (lo, hi]: hs[lo] <= z (or lo = -1), hs[hi] > z
+	// (or hi = m), galloping away from k0.
+	lo, hi := -1, m
+	if k0 == m || hs[k0] > z {
+		hi = k0
+		step := 1
+		for lo = k0 - 1; lo >= 0 && hs[lo] > z; lo -= step {
+			hi = lo
+			step *= 2
+		}
+		lo = max(lo, -1)
+	} else {
+		lo = k0
+		step := 1
+		for hi = lo + 1; hi < m && hs[hi] <= z; hi += step {
+			lo = hi
+			step *= 2
+		}
+		hi = min(hi, m)
+	}
+	for hi-lo > 1 {
+		mid := int(uint(lo+hi) >> 1)
+		if hs[mid] > z {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi
 }
 
 // advance carries the running sums from the last stage to shifted stage h.
@@ -176,8 +250,9 @@ func (s *sweeper) addPart(w *Wetted, i int, h float64) float64 {
 	return mom
 }
 
-// at returns the wetted geometry at a finite stage not below the last one.
-func (s *sweeper) at(stage float64) (Wetted, error) {
+// at returns the wetted geometry at stage number k, a finite stage not
+// below the last one.
+func (s *sweeper) at(k int, stage float64) (Wetted, error) {
 	p := s.p
 	w := Wetted{Stage: stage, Subs: make([]SubWetted, len(s.subTemplate))}
 	copy(w.Subs, s.subTemplate)
@@ -214,23 +289,20 @@ func (s *sweeper) at(stage float64) (Wetted, error) {
 		w.Pools = 1
 		wallLeft, wallRight = s.left < 0, s.right > n-1
 	} else {
-		for s.nLow < len(s.byLow) && s.byLow[s.nLow].z < h {
-			i := s.byLow[s.nLow].i
+		for _, i := range s.enter[s.enterAt[k]:s.enterAt[k+1]] {
 			s.slot[i] = int32(len(s.partly))
 			s.partly = append(s.partly, i)
-			s.nLow++
 		}
-		for s.nHigh < len(s.byHigh) && s.byHigh[s.nHigh].z < h {
-			i := s.byHigh[s.nHigh].i
-			// Remove i from the partly wet set: move the last one into its slot.
-			j := s.slot[i]
-			last := s.partly[len(s.partly)-1]
-			s.partly[j] = last
-			s.slot[last] = j
-			s.partly = s.partly[:len(s.partly)-1]
-			s.slot[i] = -1
+		for _, i := range s.full[s.fullAt[k]:s.fullAt[k+1]] {
+			if j := s.slot[i]; j >= 0 {
+				// Remove i from the partly wet set: move the last one into its slot.
+				last := s.partly[len(s.partly)-1]
+				s.partly[j] = last
+				s.slot[last] = j
+				s.partly = s.partly[:len(s.partly)-1]
+				s.slot[i] = -1
+			}
 			s.addFull(int(i), h)
-			s.nHigh++
 		}
 		s.fillSums(&w)
 		moment = s.moment
