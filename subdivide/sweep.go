@@ -24,11 +24,13 @@ type StageFunc func(i int, w Wetted, err error) error
 //
 // Method. A segment from (x1,z1) to (x2,z2) is dry while the shifted stage
 // h ≤ min(z1,z2), partly wet while min(z1,z2) < h ≤ max(z1,z2) and fully
-// wet above. Segments enter the partly wet set as h passes their low end
-// and move to running sums as h passes their high end; only the partly wet
-// set is clipped at each stage. A fully wet segment of horizontal length
-// dx contributes a constant perimeter and top width, and its area and
-// first moment about the surface grow with h as
+// wet above. Each segment is put in the bucket of the first stage that
+// wets it and of the first that wets it fully; as the sweep reaches a
+// stage, the segments of its buckets enter the partly wet set or move from
+// it to running sums. Only the partly wet set is clipped at each stage. A
+// fully wet segment of horizontal length dx contributes a constant
+// perimeter and top width, and its area and first moment about the
+// surface grow with h as
 //
 //	A(h+δ) = A(h) + T·δ
 //	M(h+δ) = M(h) + A(h)·δ + T·δ²/2
@@ -46,9 +48,10 @@ type StageFunc func(i int, w Wetted, err error) error
 // monotonically, so they are tracked by two pointers and the reach between
 // them is fully wet but for its two boundary segments.
 //
-// Cost: sorting the segment ends, O(N log N) for N points, plus O(S + P)
-// per stage for S subsections and P partly wet segments (a handful on an
-// ordinary section), plus O(M log M) to sort M stages. At clips all N
+// Cost, for N points, M stages, S subsections and P partly wet segments
+// (a handful on an ordinary section): O(M log M) to sort the stages,
+// O(N) to fill the buckets when the ground changes gradually from point
+// to point (O(N log M) at worst), and O(S + P) per stage. At clips all N
 // segments at every stage, O(N·M).
 func (p *Profile) Sweep(stages []float64, opt Options, fn StageFunc) error {
 	order := make([]int, 0, len(stages))
