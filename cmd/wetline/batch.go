@@ -314,11 +314,8 @@ func listSurveys(args []string, sheet, format string) ([]batchJob, []string, err
 	var files []string
 	for _, a := range args {
 		st, err := os.Stat(a)
-		if err != nil {
-			return nil, nil, err
-		}
-		if !st.IsDir() {
-			files = append(files, a)
+		if err != nil || !st.IsDir() {
+			files = append(files, a) // a missing file fails as its section
 			continue
 		}
 		ents, err := os.ReadDir(a)

@@ -267,3 +267,19 @@ func TestDemoBatch(t *testing.T) {
 		}
 	}
 }
+
+// TestBatchMissingFile lists a survey that cannot be opened as a failed
+// section; the others are still rated.
+func TestBatchMissingFile(t *testing.T) {
+	in := batchInputs(t, "a")
+	var stdout, stderr bytes.Buffer
+	err := runArgs(t, &env{stdout: &stdout, stderr: &stderr}, "rate", filepath.Join(in, "a.csv"), filepath.Join(in, "gone.csv"),
+		"--slope", "0.001", "--long")
+	if err == nil || !strings.Contains(err.Error(), "1 of 2 sections failed") {
+		t.Fatalf("err = %v", err)
+	}
+	if !strings.Contains(stderr.String(), "failed: gone:") || !strings.HasPrefix(stdout.String(), "section,") ||
+		!strings.Contains(stdout.String(), "\na,") {
+		t.Errorf("stdout:\n%s\nstderr:\n%s", stdout.String(), stderr.String())
+	}
+}
