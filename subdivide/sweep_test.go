@@ -305,3 +305,18 @@ func TestSweepStops(t *testing.T) {
 		t.Fatalf("err %v after %d calls, want stop after 1", err, calls)
 	}
 }
+
+// TestSweepLongValley checks the sweep against At on a long, finely
+// sampled section at many stages, where the running sums are carried over
+// thousands of steps, in both modes.
+func TestSweepLongValley(t *testing.T) {
+	s := valley(5000)
+	p, err := subdivide.Compile(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	stages := stageSteps(p, 2000)
+	for _, opt := range []subdivide.Options{{}, {Connected: true}} {
+		checkSweep(t, s, stages, opt)
+	}
+}
