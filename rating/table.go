@@ -124,6 +124,11 @@ func finiteAll(v ...float64) bool {
 
 // Compute rates geometry g at each stage. Stages may come in any order; rows
 // keep that order. A stage below the lowest ground gives a dry row.
+//
+// A *subdivide.Profile is rated in one sweep over the sorted stages
+// (subdivide.Profile.Sweep); any other geometry stage by stage with At.
+// Either way the table, or the error of the first failing stage in the
+// caller's order (with the rows before it), is the same.
 func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error) {
 	g = CompositeGeometry(g, opt.Composite)
 	t := Table{
@@ -141,22 +146,36 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	var maxL, maxR, maxStage float64
 	pools := 0
 	maxStage = math.Inf(-1)
-	for _, h := range stages {
-		w, err := g.At(h, opt.Geometry)
+	add := func(r Row) {
+		maxL = math.Max(maxL, r.ExtendedLeft)
+		maxR = math.Max(maxR, r.ExtendedRight)
+		if r.Pools > pools {
+			pools = r.Pools
+		}
+		maxStage = math.Max(maxStage, r.Stage)
+	}
+	if p, ok := g.(*subdivide.Profile); ok {
+		rows, err := sweepRows(p, stages, opt, t.Bottom)
+		for _, r := range rows {
+			add(r)
+		}
+		t.Rows = rows
 		if err != nil {
 			return t, err
 		}
-		r, err := Hydraulics(w, t.Bottom, opt.Slope, opt.Units)
-		if err != nil {
-			return t, fmt.Errorf("stage %g: %w", h, err)
+	} else {
+		for _, h := range stages {
+			w, err := g.At(h, opt.Geometry)
+			if err != nil {
+				return t, err
+			}
+			r, err := Hydraulics(w, t.Bottom, opt.Slope, opt.Units)
+			if err != nil {
+				return t, fmt.Errorf("stage %g: %w", h, err)
+			}
+			add(r)
+			t.Rows = append(t.Rows, r)
 		}
-		maxL = math.Max(maxL, w.ExtendedLeft)
-		maxR = math.Max(maxR, w.ExtendedRight)
-		if w.Pools > pools {
-			pools = w.Pools
-		}
-		maxStage = math.Max(maxStage, h)
-		t.Rows = append(t.Rows, r)
 	}
 	if n := flagConveyanceDrops(t.Rows); n > 0 {
 		t.Warnings = append(t.Warnings, fmt.Sprintf(
@@ -221,4 +240,38 @@ func flagConveyanceDrops(rows []Row) int {
 		best = math.Max(best, k)
 	}
 	return n
+}
+
+// sweepRows rates a profile at every stage with one sweep and returns the
+// rows in the caller's order. On failure it returns the rows before the
+// first failing stage (in the caller's order) and that stage's error, as
+// the stage-by-stage loop would.
+func sweepRows(p *subdivide.Profile, stages []float64, opt Options, bottom float64) ([]Row, error) {
+	rows := make([]Row, len(stages))
+	first := len(stages) // index of the first failing stage
+	var firstErr error
+	err := p.Sweep(stages, opt.Geometry, func(i int, w subdivide.Wetted, err error) error {
+		if i >= first {
+			return nil
+		}
+		if err == nil {
+			var r Row
+			r, err = Hydraulics(w, bottom, opt.Slope, opt.Units)
+			if err != nil {
+				err = fmt.Errorf("stage %g: %w", stages[i], err)
+			} else {
+				rows[i] = r
+				return nil
+			}
+		}
+		first, firstErr = i, err
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	if firstErr != nil {
+		rows = rows[:first]
+	}
+	return rows, firstErr
 }

@@ -231,19 +231,10 @@ func (p *Profile) At(stage float64, opt Options) (Wetted, error) {
 		moment += mom
 	}
 	// End walls: only where the counted water reaches the end.
-	if d := h - p.zs[0]; d > 0 && (keep < 0 || keep == p.poolOfSegment(0, h)) {
-		if opt.NoExtend {
-			return w, fmt.Errorf("stage %.6g is %.4g above the left end (elevation %.6g): %w", stage, d, p.zs[0]+p.z0, ErrAboveEnds)
-		}
-		w.ExtendedLeft = d
-		w.Subs[p.seg[0]].WettedPerimeter += d
-	}
-	if d := h - p.zs[n-1]; d > 0 && (keep < 0 || keep == p.poolOfSegment(n-2, h)) {
-		if opt.NoExtend {
-			return w, fmt.Errorf("stage %.6g is %.4g above the right end (elevation %.6g): %w", stage, d, p.zs[n-1]+p.z0, ErrAboveEnds)
-		}
-		w.ExtendedRight = d
-		w.Subs[p.seg[n-2]].WettedPerimeter += d
+	left := keep < 0 || keep == p.poolOfSegment(0, h)
+	right := keep < 0 || keep == p.poolOfSegment(n-2, h)
+	if err := p.walls(&w, h, stage, left, right, opt.NoExtend); err != nil {
+		return w, err
 	}
 	for _, s := range w.Subs {
 		w.Area += s.Area

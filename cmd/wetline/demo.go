@@ -32,7 +32,7 @@ const demoUsage = "demo -o DIR"
 type demoStep func(ctx context.Context, e *env, dir string) error
 
 // demoSteps are the parts of the demo, in order.
-var demoSteps = []demoStep{demoRating, demoWorkbook, demoSolve, demoSlopeArea, demoFit}
+var demoSteps = []demoStep{demoRating, demoWorkbook, demoBatch, demoSolve, demoSlopeArea, demoFit}
 
 func runDemo(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("demo", demoUsage)

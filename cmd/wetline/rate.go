@@ -19,6 +19,7 @@ type rateFlags struct {
 	stages         []float64
 	format, output string
 	calib          calibrateFlags
+	batch          batchFlags
 }
 
 const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text|xlsx] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
@@ -36,8 +37,12 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
 	plotDir := fs.String("plots", "", "also write the rating, section and properties figures (PNG) into this folder")
+	f.batch.register(fs)
 	if err := parseFlags(fs, e, args); err != nil {
 		return err
+	}
+	if f.isBatch(fs.Args()) {
+		return runBatch(ctx, e, &f, fs.Args())
 	}
 	if fs.NArg() != 1 && !(fs.NArg() == 0 && f.shape != "") {
 		return usagef("rate: want one SURVEY file (or --shape SPEC), got %d arguments", fs.NArg())

@@ -1,0 +1,130 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"testing"
+	"time"
+)
+
+// Size of the batch benchmark: sections, points per section, and the
+// stage range giving benchStages stages.
+const (
+	benchSections = 10_000
+	benchPointsN  = 500
+	benchStages   = 201 // 100 to 105 m in steps of 0.025 m
+)
+
+// writeBenchSurveys writes invented valley sections (bottom near 100 m,
+// ends near 105 m, bank marks, n column) as CSV files into dir.
+func writeBenchSurveys(tb testing.TB, dir string, n int) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	var b strings.Builder
+	for k := 0; k < n; k++ {
+		b.Reset()
+		b.WriteString("station,elevation,n,mark\n")
+		w := 60 + 60*rng.Float64()
+		c := w * (0.3 + 0.4*rng.Float64())
+		phase := 10 * rng.Float64()
+		for i := 0; i < benchPointsN; i++ {
+			x := w * float64(i) / (benchPointsN - 1)
+			u := (x - c) / (w / 2)
+			z := 100.2 + 4.9*u*u + 0.05*math.Sin(x/3+phase)
+			if i == 0 || i == benchPointsN-1 {
+				z = 105.05
+			}
+			mark, nv := "", 0.06
+			if math.Abs(u) < 0.35 {
+				nv = 0.035
+			}
+			if i == benchPointsN*2/5 || i == benchPointsN*3/5 {
+				mark = "bank"
+			}
+			fmt.Fprintf(&b, "%.3f,%.3f,%g,%s\n", x, z, nv, mark)
+		}
+		if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("xs%05d.csv", k)), []byte(b.String()), 0o644); err != nil {
+			tb.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkBatch rates 10 000 sections of 500 points at 201 stages on all
+// cores. "read" only reads and checks the surveys (parse, validate,
+// compile); "rate" reads and rates them (no output); "rate+write" is the
+// whole command writing a folder of tables and an index. Reported:
+// section-stages per second per core, and for rate the ratio of compute
+// time (rate minus read) to read time.
+func BenchmarkBatch(b *testing.B) {
+	dir := b.TempDir()
+	in := filepath.Join(dir, "in")
+	if err := os.Mkdir(in, 0o755); err != nil {
+		b.Fatal(err)
+	}
+	writeBenchSurveys(b, in, benchSections)
+	f := &rateFlags{slope: 0.001, from: 100, to: 105, step: 0.025}
+	f.units = "si"
+	jobs, _, err := listSurveys([]string{in}, "", "csv")
+	if err != nil {
+		b.Fatal(err)
+	}
+	cores := float64(runtime.GOMAXPROCS(0))
+	pool := func(bt *batch) time.Duration {
+		start := time.Now()
+		err := orderedPool(context.Background(), len(jobs), runtime.GOMAXPROCS(0),
+			func(i int) batchResult { return bt.rate(jobs[i]) },
+			func(i int, r batchResult) error {
+				if r.entry.Err != "" {
+					return fmt.Errorf("%s: %s", r.entry.Section, r.entry.Err)
+				}
+				if bt.compute && r.entry.Rows != benchStages {
+					return fmt.Errorf("%s: %d rows", r.entry.Section, r.entry.Rows)
+				}
+				return nil
+			})
+		if err != nil {
+			b.Fatal(err)
+		}
+		return time.Since(start)
+	}
+	perCore := func(b *testing.B, d time.Duration) {
+		b.ReportMetric(benchSections*benchStages/d.Seconds()/cores, "section-stages/s/core")
+	}
+	b.Run("read", func(b *testing.B) {
+		var d time.Duration
+		for b.Loop() {
+			d = pool(&batch{f: f, format: "csv"})
+		}
+		perCore(b, d)
+	})
+	b.Run("rate", func(b *testing.B) {
+		var read, rated time.Duration
+		for b.Loop() {
+			read = pool(&batch{f: f, format: "csv"})
+			rated = pool(&batch{f: f, format: "csv", compute: true})
+		}
+		perCore(b, rated)
+		b.ReportMetric((rated-read).Seconds()/read.Seconds(), "compute/read")
+	})
+	b.Run("rate+write", func(b *testing.B) {
+		var d time.Duration
+		for b.Loop() {
+			out := filepath.Join(dir, "out")
+			os.RemoveAll(out)
+			var sink strings.Builder
+			start := time.Now()
+			err := run(context.Background(), &env{stdout: &sink, stderr: &sink}, []string{
+				"rate", in, "--slope", "0.001", "--from", "100", "--to", "105", "--step", "0.025", "-o", out})
+			if err != nil {
+				b.Fatal(err, sink.String())
+			}
+			d = time.Since(start)
+		}
+		perCore(b, d)
+	})
+}

@@ -1,0 +1,285 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// surveyCSV is a small invented trapezoid-like section with bank marks;
+// shift raises every elevation.
+func surveyCSV(shift float64) string {
+	var b strings.Builder
+	b.WriteString("station,elevation,n,mark\n")
+	for _, p := range [][2]float64{{0, 5}, {4, 3}, {6, 3}, {8, 0}, {12, 0}, {14, 3}, {18, 3.5}, {20, 5}} {
+		mark := ""
+		if p[0] == 6 || p[0] == 14 {
+			mark = "bank"
+		}
+		fmt.Fprintf(&b, "%g,%g,0.035,%s\n", p[0], p[1]+shift, mark)
+	}
+	return b.String()
+}
+
+func runArgs(t *testing.T, e *env, args ...string) error {
+	t.Helper()
+	return run(context.Background(), e, args)
+}
+
+func readCSV(t *testing.T, path string) [][]string {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return recs
+}
+
+// batchInputs writes n surveys (the one named bad has a bad cell) into a
+// new folder and returns it.
+func batchInputs(t *testing.T, names ...string) string {
+	t.Helper()
+	dir := filepath.Join(t.TempDir(), "in")
+	if err := os.Mkdir(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for i, n := range names {
+		text := surveyCSV(float64(i))
+		if n == "bad" {
+			text = strings.Replace(text, "\n8,", "\n8,x", 1)
+		}
+		if err := os.WriteFile(filepath.Join(dir, n+".csv"), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir
+}
+
+// TestBatchFolder rates a folder: one table per section, an index in input
+// order with bankfull discharge, a bad section listed with its error, and
+// exit status 1 with a summary.
+func TestBatchFolder(t *testing.T) {
+	in := batchInputs(t, "a1", "b2", "bad", "c3")
+	out := filepath.Join(t.TempDir(), "ratings")
+	var stdout, stderr bytes.Buffer
+	e := &env{stdout: &stdout, stderr: &stderr}
+	err := runArgs(t, e, "rate", in, "--slope", "0.001", "-o", out)
+	if err == nil || !strings.Contains(err.Error(), "1 of 4 sections failed") {
+		t.Fatalf("err = %v, want a count of failed sections", err)
+	}
+	if exitStatus(err, &bytes.Buffer{}) != 1 {
+		t.Errorf("exit status not 1")
+	}
+	idx := readCSV(t, filepath.Join(out, "index.csv"))
+	if len(idx) != 5 {
+		t.Fatalf("index has %d lines, want 5:\n%v", len(idx), idx)
+	}
+	for i, want := range []string{"a1", "b2", "bad", "c3"} {
+		if idx[i+1][0] != want {
+			t.Errorf("index row %d is %q, want %q (input order)", i+1, idx[i+1][0], want)
+		}
+	}
+	col := func(name string) int {
+		for i, h := range idx[0] {
+			if h == name {
+				return i
+			}
+		}
+		t.Fatalf("no column %s", name)
+		return -1
+	}
+	if e := idx[3][col("error")]; !strings.Contains(e, "bad.csv:5:2") {
+		t.Errorf("bad section's error %q does not name file, row and column", e)
+	}
+	// Bankfull is the lower bank top, elevation 3 (+ the shift of 1 for b2).
+	if got := idx[2][col("bankfull_stage")]; got != "4" {
+		t.Errorf("bankfull stage %q, want 4", got)
+	}
+	if idx[1][col("bankfull_discharge")] == "" || idx[1][col("rows")] == "0" {
+		t.Errorf("row for a1 lacks rows or bankfull discharge: %v", idx[1])
+	}
+	for _, n := range []string{"a1.csv", "b2.csv", "c3.csv"} {
+		recs := readCSV(t, filepath.Join(out, n))
+		if recs[0][0] != "stage" || len(recs) < 3 {
+			t.Errorf("%s: not a rating table: %v", n, recs[:1])
+		}
+	}
+	if _, err := os.Stat(filepath.Join(out, "bad.csv")); !os.IsNotExist(err) {
+		t.Errorf("a table was written for the bad section")
+	}
+	if !strings.Contains(stderr.String(), "failed: bad:") || !strings.Contains(stderr.String(), "caution:") {
+		t.Errorf("stderr:\n%s", stderr.String())
+	}
+}
+
+// TestBatchLong writes one long table with a section column, rows of each
+// section together and sections in input order, for files given one by one.
+func TestBatchLong(t *testing.T) {
+	in := batchInputs(t, "z9", "a1")
+	var stdout, stderr bytes.Buffer
+	e := &env{stdout: &stdout, stderr: &stderr}
+	err := runArgs(t, e, "rate", filepath.Join(in, "z9.csv"), filepath.Join(in, "a1.csv"),
+		"--slope", "0.001", "--long", "--from", "0", "--to", "5", "--step", "1")
+	if err != nil {
+		t.Fatal(err, stderr.String())
+	}
+	recs, err := csv.NewReader(&stdout).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if recs[0][0] != "section" || recs[0][1] != "stage" {
+		t.Fatalf("header %v", recs[0])
+	}
+	var order []string
+	for _, r := range recs[1:] {
+		if len(order) == 0 || order[len(order)-1] != r[0] {
+			order = append(order, r[0])
+		}
+	}
+	if strings.Join(order, ",") != "z9,a1" || len(recs) != 13 {
+		t.Errorf("sections in order %v with %d lines, want z9,a1 with 13", order, len(recs))
+	}
+}
+
+// TestBatchWorkbookSheets rates every survey sheet of a workbook.
+func TestBatchWorkbookSheets(t *testing.T) {
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "XS-1")
+	f.NewSheet("remarks")
+	f.SetSheetRow("remarks", "A1", &[]any{"date", "crew"})
+	f.NewSheet("XS-2")
+	for _, sh := range []string{"XS-1", "XS-2"} {
+		r := csv.NewReader(strings.NewReader(surveyCSV(0)))
+		recs, _ := r.ReadAll()
+		for i, rec := range recs {
+			row := make([]any, len(rec))
+			for j, c := range rec {
+				row[j] = c
+			}
+			cell, _ := excelize.CoordinatesToCellName(1, i+1)
+			f.SetSheetRow(sh, cell, &row)
+		}
+	}
+	dir := t.TempDir()
+	book := filepath.Join(dir, "reach.xlsx")
+	if err := f.SaveAs(book); err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(dir, "out")
+	var stdout, stderr bytes.Buffer
+	if err := runArgs(t, &env{stdout: &stdout, stderr: &stderr}, "rate", book, "--all-sheets", "--slope", "0.002", "-o", out); err != nil {
+		t.Fatal(err, stderr.String())
+	}
+	idx := readCSV(t, filepath.Join(out, "index.csv"))
+	if len(idx) != 3 || idx[1][0] != "XS-1" || idx[2][0] != "XS-2" || idx[2][1] != book+"['XS-2']" {
+		t.Errorf("index %v", idx)
+	}
+}
+
+// TestBatchProgress shows a progress line on a terminal.
+func TestBatchProgress(t *testing.T) {
+	defer func(d, ev time.Duration) { progressDelay, progressEvery = d, ev }(progressDelay, progressEvery)
+	progressDelay, progressEvery = 0, 0
+	in := batchInputs(t, "a", "b", "c")
+	for _, tty := range []bool{true, false} {
+		var stdout, stderr bytes.Buffer
+		err := runArgs(t, &env{stdout: &stdout, stderr: &stderr, stderrTTY: tty}, "rate", in, "--slope", "0.001", "--long")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := strings.Contains(stderr.String(), "\rrating: 3 of 3 sections"); got != tty {
+			t.Errorf("terminal %v: progress shown %v:\n%q", tty, got, stderr.String())
+		}
+	}
+}
+
+// TestBatchUsage checks the command-line errors of batch mode.
+func TestBatchUsage(t *testing.T) {
+	in := batchInputs(t, "a", "b")
+	tests := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"rate", in, "--slope", "0.001"}, "give -o DIR"},
+		{[]string{"rate", in, "-o", "x"}, "--slope"},
+		{[]string{"rate", in, "--slope", "0.001", "--long", "--format", "json"}, "--format"},
+		{[]string{"rate", in, "--slope", "0.001", "--long", "--stages", "1", "--step", "1"}, "not both"},
+	}
+	for _, tt := range tests {
+		var out bytes.Buffer
+		err := runArgs(t, &env{stdout: &out, stderr: &out}, tt.args...)
+		var ue usageError
+		if !errors.As(err, &ue) || !strings.Contains(err.Error(), tt.want) {
+			t.Errorf("%v: err %v, want a usage error with %q", tt.args, err, tt.want)
+		}
+	}
+}
+
+// TestBatchRefusesInputs keeps an input that the output folder would
+// replace.
+func TestBatchRefusesInputs(t *testing.T) {
+	in := batchInputs(t, "a", "b")
+	before, _ := os.ReadFile(filepath.Join(in, "a.csv"))
+	var out bytes.Buffer
+	err := runArgs(t, &env{stdout: &out, stderr: &out}, "rate", in, "--slope", "0.001", "-o", in)
+	if err == nil {
+		t.Fatal("writing tables over the inputs succeeded")
+	}
+	after, _ := os.ReadFile(filepath.Join(in, "a.csv"))
+	if !bytes.Equal(before, after) {
+		t.Errorf("input changed")
+	}
+	idx := readCSV(t, filepath.Join(in, "index.csv"))
+	if !strings.Contains(idx[1][len(idx[1])-1], "refusing to write over an input") {
+		t.Errorf("index %v", idx)
+	}
+}
+
+// TestDemoBatch runs the demo and checks its batch step: the reach's three
+// sections rated without error, with bankfull discharges.
+func TestDemoBatch(t *testing.T) {
+	dir := t.TempDir()
+	var out bytes.Buffer
+	if err := runArgs(t, &env{stdout: &out, stderr: &out}, "demo", "-o", dir); err != nil {
+		t.Fatal(err, out.String())
+	}
+	idx := readCSV(t, filepath.Join(dir, "tallow-reach-ratings", "index.csv"))
+	if len(idx) != 1+len(demoGaugeReach) {
+		t.Fatalf("index %v", idx)
+	}
+	for _, r := range idx[1:] {
+		if r[len(r)-1] != "" || r[7] == "" {
+			t.Errorf("section %s: error %q, bankfull discharge %q", r[0], r[len(r)-1], r[7])
+		}
+	}
+}
+
+// TestBatchMissingFile lists a survey that cannot be opened as a failed
+// section; the others are still rated.
+func TestBatchMissingFile(t *testing.T) {
+	in := batchInputs(t, "a")
+	var stdout, stderr bytes.Buffer
+	err := runArgs(t, &env{stdout: &stdout, stderr: &stderr}, "rate", filepath.Join(in, "a.csv"), filepath.Join(in, "gone.csv"),
+		"--slope", "0.001", "--long")
+	if err == nil || !strings.Contains(err.Error(), "1 of 2 sections failed") {
+		t.Fatalf("err = %v", err)
+	}
+	if !strings.Contains(stderr.String(), "failed: gone:") || !strings.HasPrefix(stdout.String(), "section,") ||
+		!strings.Contains(stdout.String(), "\na,") {
+		t.Errorf("stdout:\n%s\nstderr:\n%s", stdout.String(), stderr.String())
+	}
+}

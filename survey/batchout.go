@@ -1,0 +1,137 @@
+package survey
+
+import (
+	"encoding/csv"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+)
+
+// IndexEntry is one section's line in the index of a batch rating.
+type IndexEntry struct {
+	// Section is the section's name; Source the file (and ['sheet']) it
+	// was read from; Output the file its table was written to ("" when
+	// none was).
+	Section, Source, Output string
+	// Rows is the number of stages rated.
+	Rows int
+	// StageMin and StageMax bound the stages rated (length unit; NaN when
+	// no row was rated).
+	StageMin, StageMax float64
+	// BankfullStage is the lower of the two bank-top elevations and
+	// BankfullDischarge the discharge there (length unit, discharge unit);
+	// NaN when the section has no banks.
+	BankfullStage, BankfullDischarge float64
+	// Warnings are the section's warnings; Err its error ("" when rated).
+	Warnings []string
+	Err      string
+}
+
+// IndexColumns are the column names of a batch index table, in order.
+var IndexColumns = []string{"section", "source", "output", "rows", "stage_min", "stage_max",
+	"bankfull_stage", "bankfull_discharge", "warnings", "error"}
+
+// WarningSeparator joins several warnings in one cell.
+const WarningSeparator = " | "
+
+// WriteIndexCSV writes the index of a batch rating: a header row
+// (IndexColumns) and one row per entry, in the order given. Undefined
+// numbers are empty cells.
+func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
+	cw := csv.NewWriter(w)
+	cw.Write(IndexColumns)
+	for _, e := range entries {
+		cw.Write([]string{e.Section, e.Source, e.Output, strconv.Itoa(e.Rows),
+			FormatFloat(e.StageMin), FormatFloat(e.StageMax),
+			FormatFloat(e.BankfullStage), FormatFloat(e.BankfullDischarge),
+			strings.Join(e.Warnings, WarningSeparator), e.Err})
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+// LongRatingWriter writes the rating tables of many sections as one long
+// CSV table: a "section" column, then RatingColumns and ExtraRatingColumns.
+// Per-subsection discharges are left out, as sections differ in their
+// subsections.
+type LongRatingWriter struct {
+	cw  *csv.Writer
+	rec []string
+}
+
+// NewLongRatingWriter writes the header row and returns the writer.
+func NewLongRatingWriter(w io.Writer) *LongRatingWriter {
+	l := &LongRatingWriter{cw: csv.NewWriter(w)}
+	cols := append(append([]string{"section"}, RatingColumns...), ExtraRatingColumns...)
+	l.cw.Write(cols)
+	l.rec = make([]string, len(cols))
+	return l
+}
+
+// Write appends the rows of one section's table.
+func (l *LongRatingWriter) Write(section string, t rating.Table) error {
+	for _, r := range t.Rows {
+		l.rec[0] = section
+		for i, v := range rowValues(r)[:len(l.rec)-1] {
+			l.rec[i+1] = FormatFloat(v)
+		}
+		if err := l.cw.Write(l.rec); err != nil {
+			return err
+		}
+	}
+	return l.cw.Error()
+}
+
+// Flush writes any buffered rows and reports a write error.
+func (l *LongRatingWriter) Flush() error {
+	l.cw.Flush()
+	return l.cw.Error()
+}
+
+// SectionSheets lists the sheets of a workbook that hold a survey: those
+// whose header row has station and elevation columns, in workbook order.
+func SectionSheets(path string) ([]string, error) {
+	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
+	if err != nil {
+		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+	}
+	defer f.Close()
+	var out []string
+	for _, sheet := range f.GetSheetList() {
+		ok, err := hasSurveyHeader(f, sheet)
+		if err != nil {
+			return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+		}
+		if ok {
+			out = append(out, sheet)
+		}
+	}
+	return out, nil
+}
+
+// hasSurveyHeader reports whether the first non-blank row of a sheet names
+// station and elevation columns.
+func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
+	rows, err := f.Rows(sheet)
+	if err != nil {
+		return false, err
+	}
+	defer rows.Close()
+	for rows.Next() {
+		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
+		if err != nil {
+			return false, err
+		}
+		if blank(rec) {
+			continue
+		}
+		t := &Table{Header: trimAll(rec)}
+		return t.Column(ColStation) >= 0 && t.Column(ColElevation) >= 0, nil
+	}
+	return false, rows.Error()
+}

@@ -1,0 +1,89 @@
+package survey
+
+import (
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+func TestWriteIndexCSV(t *testing.T) {
+	var b strings.Builder
+	nan := math.NaN()
+	err := WriteIndexCSV(&b, []IndexEntry{
+		{Section: "XS-1", Source: "a.csv", Output: "XS-1.csv", Rows: 3, StageMin: 1, StageMax: 2.5,
+			BankfullStage: 2, BankfullDischarge: 12.5, Warnings: []string{"w1", "w, 2"}},
+		{Section: "XS-2", Source: "b.csv", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan,
+			Err: "b.csv:3:2: elevation \"x\": not a number"},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "section,source,output,rows,stage_min,stage_max,bankfull_stage,bankfull_discharge,warnings,error\n" +
+		"XS-1,a.csv,XS-1.csv,3,1,2.5,2,12.5,\"w1 | w, 2\",\n" +
+		"XS-2,b.csv,,0,,,,,,\"b.csv:3:2: elevation \"\"x\"\": not a number\"\n"
+	if b.String() != want {
+		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
+	}
+}
+
+func TestLongRatingWriter(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{
+		Points:    []subdivide.Point{{Station: 0, Elevation: 2}, {Station: 2, Elevation: 0}, {Station: 4, Elevation: 2}},
+		NByRegion: [3]float64{0.03},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := rating.Compute(p, []float64{0, 1}, rating.Options{Slope: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b strings.Builder
+	l := NewLongRatingWriter(&b)
+	if err := l.Write("a,b", tab); err != nil {
+		t.Fatal(err)
+	}
+	if err := l.Write("c", tab); err != nil {
+		t.Fatal(err)
+	}
+	if err := l.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(b.String()), "\n")
+	if len(lines) != 5 || !strings.HasPrefix(lines[0], "section,stage,depth,area,") ||
+		!strings.HasPrefix(lines[1], "\"a,b\",0,0,0,") || !strings.HasPrefix(lines[4], "c,1,1,1,") {
+		t.Errorf("long table:\n%s", b.String())
+	}
+	if n := strings.Count(lines[0], ","); n != len(RatingColumns)+len(ExtraRatingColumns) {
+		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns)+len(ExtraRatingColumns))
+	}
+}
+
+func TestSectionSheets(t *testing.T) {
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "XS-1")
+	f.SetSheetRow("XS-1", "A1", &[]any{"Station (m)", "Elevation (m)", "n"})
+	f.SetSheetRow("XS-1", "A2", &[]any{0, 1, 0.03})
+	f.NewSheet("notes")
+	f.SetSheetRow("notes", "A1", &[]any{"what", "who"})
+	f.NewSheet("XS-2")
+	f.SetSheetRow("XS-2", "B3", &[]any{"station", "elevation"})
+	f.NewSheet("empty")
+	path := filepath.Join(t.TempDir(), "reach.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	got, err := SectionSheets(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Join(got, ",") != "XS-1,XS-2" {
+		t.Errorf("section sheets %q, want XS-1, XS-2", got)
+	}
+}

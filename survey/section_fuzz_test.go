@@ -1,0 +1,74 @@
+package survey
+
+import (
+	"bytes"
+	"errors"
+	"math"
+	"os"
+	"strings"
+	"testing"
+
+	"wetline/subdivide"
+)
+
+// FuzzParseSection feeds arbitrary text to the CSV survey reader. Oracles:
+// it never panics; an error is a *ParseError (or a join of them) whose
+// message names the file; a survey it accepts has finite points with
+// stations that never decrease, one n per segment when n is given, banks
+// inside the section, and compiles without error.
+func FuzzParseSection(f *testing.F) {
+	if data, err := os.ReadFile("../testdata/tallow-xs1.csv"); err == nil {
+		f.Add(data, false)
+	}
+	for _, s := range []string{
+		"station,elevation\n0,1\n1,0\n2,1\n",
+		"station,elevation,n,mark\n0,5,0.03,bank\n1,0,,\n2,5,0.05,bank\n",
+		"\ufeffStation (m),Elevation (m),N\n0,1,0.03\n1,1,0.03\n",
+		"station;elevation\n0;1,5\n",
+		"station,elevation\n0,1,5\n1,NaN\n",
+		"# comment\n\nstation,elevation,n\n0,1,\n1,0,0.04\n1,2,\n",
+		"station,elevation\n\"0\",\"1\n",
+	} {
+		f.Add([]byte(s), false)
+	}
+	f.Add([]byte("station,elevation,mark\n0,3,bank\n1,0,\n2,3,bank\n"), true)
+	f.Fuzz(func(t *testing.T, data []byte, ignoreBanks bool) {
+		sv, err := ParseSection(bytes.NewReader(data), "in.csv", SectionOptions{IgnoreBankMarks: ignoreBanks})
+		if err != nil {
+			var pe *ParseError
+			if !errors.As(err, &pe) {
+				t.Fatalf("error is not a ParseError: %T %v", err, err)
+			}
+			if !strings.HasPrefix(err.Error(), "in.csv") {
+				t.Fatalf("error does not name the file: %v", err)
+			}
+			return
+		}
+		pts := sv.Section.Points
+		if len(pts) < 2 {
+			t.Fatalf("accepted %d points", len(pts))
+		}
+		if len(sv.Rows) != len(pts) || len(sv.Labels) != len(pts) || len(sv.Notes) != len(pts) {
+			t.Fatalf("per-point slices of different length")
+		}
+		for i, p := range pts {
+			if math.IsNaN(p.Station) || math.IsInf(p.Station, 0) || math.IsNaN(p.Elevation) || math.IsInf(p.Elevation, 0) {
+				t.Fatalf("point %d not finite: %v", i, p)
+			}
+			if i > 0 && p.Station < pts[i-1].Station {
+				t.Fatalf("overhang accepted at point %d", i)
+			}
+		}
+		if sv.Section.N != nil && len(sv.Section.N) != len(pts)-1 {
+			t.Fatalf("%d n values for %d points", len(sv.Section.N), len(pts))
+		}
+		for _, n := range sv.Section.N {
+			if !(n > 0) {
+				t.Fatalf("n %v accepted", n)
+			}
+		}
+		if _, err := subdivide.Compile(sv.Section); err != nil {
+			t.Fatalf("accepted survey does not compile: %v", err)
+		}
+	})
+}
