@@ -77,7 +77,7 @@ func NewLongRatingWriter(w io.Writer) *LongRatingWriter {
 func (l *LongRatingWriter) Write(section string, t rating.Table) error {
 	for _, r := range t.Rows {
 		l.rec[0] = section
-		for i, v := range rowValues(r)[:len(l.rec)-1] {
+		for i, v := range append(mainValues(r), extraValues(r)...) {
 			l.rec[i+1] = FormatFloat(v)
 		}
 		if err := l.cw.Write(l.rec); err != nil {

@@ -23,8 +23,8 @@ var RatingColumns = []string{
 	"conveyance", "discharge", "mean_velocity", "alpha", "froude",
 }
 
-// ExtraRatingColumns follow RatingColumns and precede the per-subsection
-// discharges.
+// ExtraRatingColumns follow the per-subsection discharges, which follow
+// RatingColumns.
 var ExtraRatingColumns = []string{"hydraulic_depth", "beta", "shear_stress"}
 
 // SubsectionColumn names the discharge column of subsection i (0-based).
@@ -48,15 +48,34 @@ func regionTag(r string) string {
 // what a gauge reader needs. Everything else keeps 6 significant digits.
 var lengthColumn = map[int]bool{0: true, 1: true}
 
-// rowValues returns a row's values in column order.
+// rowValues returns a row's values in column order: RatingColumns, one
+// discharge per subsection, then ExtraRatingColumns.
 func rowValues(r rating.Row) []float64 {
-	v := []float64{r.Stage, r.Depth, r.Area, r.WettedPerimeter, r.TopWidth, r.HydraulicRadius,
-		r.Conveyance, r.Discharge, r.MeanVelocity, r.Alpha, r.Froude,
-		r.HydraulicDepth, r.Beta, r.ShearStress}
+	v := mainValues(r)
 	for _, s := range r.Subs {
 		v = append(v, s.Discharge)
 	}
-	return v
+	return append(v, extraValues(r)...)
+}
+
+// mainValues returns a row's values of RatingColumns.
+func mainValues(r rating.Row) []float64 {
+	return []float64{r.Stage, r.Depth, r.Area, r.WettedPerimeter, r.TopWidth, r.HydraulicRadius,
+		r.Conveyance, r.Discharge, r.MeanVelocity, r.Alpha, r.Froude}
+}
+
+// extraValues returns a row's values of ExtraRatingColumns.
+func extraValues(r rating.Row) []float64 {
+	return []float64{r.HydraulicDepth, r.Beta, r.ShearStress}
+}
+
+// ratingCSVColumns names the columns of a rating table in CSV order.
+func ratingCSVColumns(t rating.Table) []string {
+	cols := append([]string(nil), RatingColumns...)
+	for i := range t.Subsections {
+		cols = append(cols, SubsectionColumn(t, i))
+	}
+	return append(cols, ExtraRatingColumns...)
 }
 
 // FormatFloat writes v with 6 significant digits, and "" for NaN or ±Inf
@@ -90,17 +109,13 @@ func FormatLength(v float64) string {
 }
 
 // WriteRatingCSV writes a rating table as CSV: a header row of column names
-// (RatingColumns, ExtraRatingColumns, then one discharge column per
-// subsection), then one row per stage. Undefined values are empty cells.
+// (RatingColumns, one discharge column per subsection, ExtraRatingColumns
+// and flags), then one row per stage. Undefined values are empty cells.
 // Units are those of t.Units; the CSV has no comment lines, so it loads
 // into any spreadsheet.
 func WriteRatingCSV(w io.Writer, t rating.Table) error {
 	bw := bufio.NewWriter(w)
-	cols := append(append([]string(nil), RatingColumns...), ExtraRatingColumns...)
-	for i := range t.Subsections {
-		cols = append(cols, SubsectionColumn(t, i))
-	}
-	cols = append(cols, "flags")
+	cols := append(ratingCSVColumns(t), "flags")
 	writeRecord(bw, cols)
 	rec := make([]string, 0, len(cols))
 	for _, r := range t.Rows {

@@ -148,14 +148,14 @@ func RatingSheetColumns(t rating.Table) []Column {
 		{Name: "mean_velocity", Unit: u.Velocity(), Format: "0.00"},
 		{Name: "alpha", Format: "0.000"},
 		{Name: "froude", Format: "0.00"},
-		{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
-		{Name: "beta", Format: "0.000"},
-		{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"},
 	}
 	for i := range t.Subsections {
 		cols = append(cols, Column{Name: SubsectionColumn(t, i), Unit: Q, Format: FormatSig3})
 	}
-	return cols
+	return append(cols,
+		Column{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
+		Column{Name: "beta", Format: "0.000"},
+		Column{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"})
 }
 
 // WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
