@@ -236,6 +236,12 @@ func (p *Profile) At(stage float64, opt Options) (Wetted, error) {
 	if err := p.walls(&w, h, stage, left, right, opt.NoExtend); err != nil {
 		return w, err
 	}
+	return p.total(w, moment), nil
+}
+
+// total adds up the subsections into the whole and fills the derived
+// ratios; moment is the first moment of area about the surface.
+func (p *Profile) total(w Wetted, moment float64) Wetted {
 	for _, s := range w.Subs {
 		w.Area += s.Area
 		w.WettedPerimeter += s.WettedPerimeter
@@ -245,7 +251,7 @@ func (p *Profile) At(stage float64, opt Options) (Wetted, error) {
 	if w.Area > 0 {
 		w.CentroidDepth = moment / w.Area
 	}
-	return w, nil
+	return w
 }
 
 // finish fills the derived ratios.

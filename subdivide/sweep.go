@@ -325,16 +325,7 @@ func (s *sweeper) at(k int, stage float64) (Wetted, error) {
 	if err := p.walls(&w, h, stage, wallLeft, wallRight, s.opt.NoExtend); err != nil {
 		return w, err
 	}
-	for _, sw := range w.Subs {
-		w.Area += sw.Area
-		w.WettedPerimeter += sw.WettedPerimeter
-		w.TopWidth += sw.TopWidth
-	}
-	w = p.finish(w)
-	if w.Area > 0 {
-		w.CentroidDepth = moment / w.Area
-	}
-	return w, nil
+	return p.total(w, moment), nil
 }
 
 // fillSums copies the running sums of fully wet ground into w.Subs.
