@@ -1,6 +1,7 @@
 package survey
 
 import (
+	"errors"
 	"os"
 	"sync"
 )
@@ -9,6 +10,8 @@ import (
 var temps struct {
 	sync.Mutex
 	names map[string]bool
+	// closed is set by RemoveTemps: no temporary file may be made after.
+	closed bool
 }
 
 // RegisterTemp records a temporary file that RemoveTemps should delete.
@@ -33,8 +36,32 @@ func UnregisterTemp(name string) {
 func RemoveTemps() {
 	temps.Lock()
 	defer temps.Unlock()
+	temps.closed = true
 	for name := range temps.names {
 		os.Remove(name)
 		delete(temps.names, name)
 	}
+}
+
+// errInterrupted refuses a temporary file once RemoveTemps has run.
+var errInterrupted = errors.New("interrupted: no more output is written")
+
+// openTemp creates and registers a temporary file under the lock that
+// RemoveTemps takes, so that no file is ever created unregistered or after
+// the clean-up.
+func openTemp(name string) (*os.File, error) {
+	temps.Lock()
+	defer temps.Unlock()
+	if temps.closed {
+		return nil, errInterrupted
+	}
+	f, err := os.OpenFile(name, os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o600)
+	if err != nil {
+		return nil, err
+	}
+	if temps.names == nil {
+		temps.names = map[string]bool{}
+	}
+	temps.names[name] = true
+	return f, nil
 }

@@ -4,8 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
+	"sync/atomic"
 )
 
 // ErrWouldOverwriteInput is returned when an output path names an input.
@@ -52,13 +54,10 @@ func WriteFile(path string, inputs []string, write func(io.Writer) error) (err e
 	if err := CheckOutput(path, inputs); err != nil {
 		return err
 	}
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
+	tmp, name, err := createTemp(path)
 	if err != nil {
 		return err
 	}
-	name := tmp.Name()
-	RegisterTemp(name)
 	defer func() {
 		UnregisterTemp(name)
 		if err != nil {
@@ -83,4 +82,25 @@ func WriteFile(path string, inputs []string, write func(io.Writer) error) (err e
 		return err
 	}
 	return os.Rename(name, path)
+}
+
+// tempSeq numbers temporary files within this process.
+var tempSeq atomic.Uint64
+
+// createTemp creates a new temporary file beside path, registered for
+// RemoveTemps in the same step, so an interrupt at any moment leaves
+// nothing behind.
+func createTemp(path string) (*os.File, string, error) {
+	dir, base := filepath.Dir(path), filepath.Base(path)
+	for range 100 {
+		name := filepath.Join(dir, fmt.Sprintf(".%s.%d-%d.tmp", base, os.Getpid(), tempSeq.Add(1)))
+		f, err := openTemp(name)
+		if err == nil {
+			return f, name, nil
+		}
+		if !errors.Is(err, fs.ErrExist) {
+			return nil, "", err
+		}
+	}
+	return nil, "", fmt.Errorf("%s: cannot create a temporary file beside it", path)
 }

@@ -159,7 +159,15 @@ func TestWriteFileRefusesInputThroughLink(t *testing.T) {
 // signal handler calls RemoveTemps while a write is under way. No
 // temporary file remains, no output appears, an existing one is kept.
 func TestWriteFileInterrupted(t *testing.T) {
+	// The real program exits after RemoveTemps; the tests go on writing.
+	reopen := func() {
+		temps.Lock()
+		temps.closed = false
+		temps.Unlock()
+	}
+	defer reopen()
 	for _, existing := range []string{"", "old content\n"} {
+		reopen()
 		dir := t.TempDir()
 		out := filepath.Join(dir, "rating.csv")
 		if existing != "" {
@@ -186,6 +194,10 @@ func TestWriteFileInterrupted(t *testing.T) {
 		}
 		if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
 			t.Errorf("files left behind: %v", l)
+		}
+		// After the clean-up no new temporary file can be made.
+		if err := WriteFile(filepath.Join(dir, "later.csv"), nil, func(io.Writer) error { return nil }); !errors.Is(err, errInterrupted) {
+			t.Errorf("write after the clean-up: %v, want errInterrupted", err)
 		}
 	}
 }
