@@ -14,16 +14,6 @@ var temps struct {
 	closed bool
 }
 
-// RegisterTemp records a temporary file that RemoveTemps should delete.
-func RegisterTemp(name string) {
-	temps.Lock()
-	defer temps.Unlock()
-	if temps.names == nil {
-		temps.names = map[string]bool{}
-	}
-	temps.names[name] = true
-}
-
 // UnregisterTemp forgets a temporary file (renamed into place or removed).
 func UnregisterTemp(name string) {
 	temps.Lock()
