@@ -583,7 +583,7 @@ func saChecks(res *SlopeArea) []ReachCheck {
 	cs := saCheckList(res)
 	for _, c := range cs {
 		if !c.Pass {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("check %s: %s %s %s fails (%s)",
+			res.Warnings = append(res.Warnings, fmt.Sprintf("quality check %q fails: value %s, wanted %s %s (%s)",
 				c.Name, saSig(c.Value), c.Relation, saSig(c.Limit), c.Source))
 		}
 	}
@@ -615,6 +615,8 @@ func saCheckList(res *SlopeArea) []ReachCheck {
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
+			// The value is the change in velocity head downstream: a
+			// rise means the flow expands.
 			cs = append(cs, ReachCheck{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}

@@ -1,12 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"embed"
 	"fmt"
 	"io"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"wetline/rating"
 	"wetline/survey"
@@ -31,8 +33,20 @@ const demoUsage = "demo -o DIR"
 // prints what it wrote.
 type demoStep func(ctx context.Context, e *env, dir string) error
 
-// demoSteps are the parts of the demo, in order.
-var demoSteps = []demoStep{demoRating, demoWorkbook, demoBatch, demoSolve, demoSlopeArea, demoFit}
+// demoSteps are the parts of the demo, in order, each under a heading
+// ("" continues the part above).
+var demoSteps = []struct {
+	heading string
+	run     demoStep
+}{
+	{"Tallow Creek at Mill Lane footbridge, a gauged site (invented):", demoRating},
+	{"", demoPlots},
+	{"", demoWorkbook},
+	{"", demoBatch},
+	{"Gaugings at the Tallow Creek staff gauge (invented):", demoFit},
+	{"A built section, the Mill Lane road culvert (invented):", demoSolve},
+	{"Brindle Creek below Quarry Road, a post-flood slope-area reach (invented):", demoSlopeArea},
+}
 
 func runDemo(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("demo", demoUsage)
@@ -46,14 +60,48 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 	if err := os.MkdirAll(*out, 0o755); err != nil {
 		return err
 	}
-	fmt.Fprintf(e.stdout, "Tallow Creek at Mill Lane footbridge (an invented demo site) -> %s\n", *out)
+	fmt.Fprintf(e.stdout, "wetline demo: invented sites and data, written to %s\n", *out)
+	// Steps that rate the same section repeat its warnings: say each once.
+	de := *e
+	de.stdout = &onceWriter{w: e.stdout, seen: map[string]bool{}}
 	for _, step := range demoSteps {
-		if err := step(ctx, e, *out); err != nil {
+		if step.heading != "" {
+			fmt.Fprintln(e.stdout, "\n"+step.heading)
+		}
+		if err := step.run(ctx, &de, *out); err != nil {
 			return err
 		}
 	}
-	fmt.Fprintln(e.stdout, "caution: "+survey.Caution)
+	fmt.Fprintln(e.stdout, "\ncaution: "+survey.Caution)
 	return nil
+}
+
+// onceWriter passes lines through, except a warning line already passed.
+type onceWriter struct {
+	w    io.Writer
+	seen map[string]bool
+	buf  []byte
+}
+
+func (o *onceWriter) Write(p []byte) (int, error) {
+	o.buf = append(o.buf, p...)
+	for {
+		i := bytes.IndexByte(o.buf, '\n')
+		if i < 0 {
+			return len(p), nil
+		}
+		line := string(o.buf[:i+1])
+		o.buf = o.buf[i+1:]
+		if strings.HasPrefix(line, "warning: ") {
+			if o.seen[line] {
+				continue
+			}
+			o.seen[line] = true
+		}
+		if _, err := io.WriteString(o.w, line); err != nil {
+			return len(p), err
+		}
+	}
 }
 
 // copyDemoFile writes an embedded demo file into dir and returns its path.

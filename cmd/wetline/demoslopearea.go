@@ -21,7 +21,6 @@ var demoReachSurveys = []string{"reach-brindle-xs1.csv", "reach-brindle-xs2.csv"
 // demoSlopeArea writes the reach table, its three surveys and the
 // slope-area report as text and JSON.
 func demoSlopeArea(ctx context.Context, e *env, dir string) error {
-	fmt.Fprintln(e.stdout, "Brindle Creek below Quarry Road, post-flood slope-area reach (invented):")
 	path, err := copyDemoFile(e, dir, demoReach, "reach table: sections, distances, high-water marks")
 	if err != nil {
 		return err

@@ -198,8 +198,6 @@ func rateFigures(dir, surveyPath string, l *loaded, t rating.Table) ([]figureFil
 		subtitle: fmt.Sprintf("section surveyed in %s", filepath.Base(surveyPath))})
 }
 
-func init() { demoSteps = append(demoSteps, demoPlots) }
-
 // demoPlots draws the demo site's figures from its survey and rating.
 func demoPlots(ctx context.Context, e *env, dir string) error {
 	path := filepath.Join(dir, demoSurvey)
