@@ -339,7 +339,7 @@ func TestRatingReference(t *testing.T) {
 }
 
 func TestBankfull(t *testing.T) {
-	pts := pointsOf(0, 5, 2, 3, 4, 0, 6, 2, 8, 6)
+	pts := subdivide.XZ(0, 5, 2, 3, 4, 0, 6, 2, 8, 6)
 	for _, tc := range []struct {
 		name       string
 		sec        subdivide.Section
@@ -367,25 +367,13 @@ func BenchmarkRating(b *testing.B) {
 	}
 }
 
-// pointsOf builds a ground line from station, elevation pairs.
-func pointsOf(v ...float64) []subdivide.Point {
-	out := make([]subdivide.Point, 0, len(v)/2)
-	for i := 0; i+1 < len(v); i += 2 {
-		out = append(out, subdivide.Point{Station: v[i], Elevation: v[i+1]})
-	}
-	return out
-}
-
-// referenceDir finds ../shared/reference beside the checkout (a worktree
-// sits one level deeper than the main checkout).
+// referenceDir is the copy of the public-domain USGS reference data kept
+// with the rating tests (rating/testdata/reference, from ../shared/reference).
 func referenceDir(t *testing.T) string {
 	t.Helper()
-	for _, up := range []string{"../..", "../../.."} {
-		dir := filepath.Join(filepath.FromSlash(up), "shared", "reference")
-		if _, err := os.Stat(filepath.Join(dir, "README.md")); err == nil {
-			return dir
-		}
+	dir := filepath.Join("..", "rating", "testdata", "reference")
+	if _, err := os.Stat(filepath.Join(dir, "rating-01594440.csv")); err != nil {
+		t.Fatalf("reference data: %v", err)
 	}
-	t.Skip("../shared/reference is not at hand")
-	return ""
+	return dir
 }
