@@ -100,6 +100,9 @@ func FormatLength(v float64) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
 	}
+	if math.Abs(v) >= 1e12 {
+		return FormatFloat(v) // no survey is this large; keep the cell short
+	}
 	s := strconv.FormatFloat(v, 'f', LengthDecimals, 64)
 	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
 	if s == "-0" {
