@@ -71,6 +71,22 @@ func Sig3Decimals(v float64) int {
 }
 
 // decimalsFormat returns the format code with d decimals: "0", "0.0", ...
+// Number returns v styled with a number format code (FormatSig3 picks the
+// decimals from the value), or nil, an empty cell, when v is NaN or ±Inf.
+func (b *Book) Number(format string, v float64) (any, error) {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil, nil
+	}
+	if format == FormatSig3 {
+		format = decimalsFormat(Sig3Decimals(v))
+	}
+	id, err := b.Style(format)
+	if err != nil {
+		return nil, err
+	}
+	return Styled{id, v}, nil
+}
+
 func decimalsFormat(d int) string {
 	if d <= 0 {
 		return "0"

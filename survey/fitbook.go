@@ -141,17 +141,14 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 	// num styles a number with a format code (FormatSig3 chooses per
 	// value); undefined numbers leave the item out.
 	num := func(format string, v float64) any {
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		if err != nil {
 			return nil
 		}
-		if format == FormatSig3 {
-			format = decimalsFormat(Sig3Decimals(v))
-		}
-		id, e := b.Style(format)
+		x, e := b.Number(format, v)
 		if e != nil {
 			err = e
 		}
-		return Styled{id, v}
+		return x
 	}
 	add("site", r.Site, "")
 	add("read from", fw.Source, "")

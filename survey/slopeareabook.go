@@ -3,7 +3,6 @@ package survey
 import (
 	"fmt"
 	"io"
-	"math"
 
 	"wetline/rating"
 )
@@ -75,17 +74,14 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 	}
 	var err error
 	num := func(format string, v float64) any {
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		if err != nil {
 			return nil
 		}
-		if format == FormatSig3 {
-			format = decimalsFormat(Sig3Decimals(v))
-		}
-		id, e := b.Style(format)
+		x, e := b.Number(format, v)
 		if e != nil {
 			err = e
 		}
-		return Styled{id, v}
+		return x
 	}
 	items := []SummaryItem{
 		{"reach table", saReachName(rep), ""},
