@@ -135,26 +135,9 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		}
 		return survey.WriteGaugingReportText(w, rep)
 	}
-	if f.output == "" {
-		if err := write(e.stdout); err != nil {
-			return err
-		}
-		if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
-			return err
-		}
-		if format != "text" {
-			printWarnings(e.stderr, rep.Warnings)
-		}
-		return nil
-	}
-	if err := survey.WriteFile(f.output, inputs, write); err != nil {
-		return err
-	}
-	if err := writeFigures(e.stderr, f.plots, figs, inputs); err != nil {
-		return err
-	}
-	summarizeFit(e.stderr, rep, f.output)
-	return nil
+	return delivery{output: f.output, inputs: inputs, write: write, inline: format == "text", warnings: rep.Warnings,
+		plots: f.plots, figs: figs,
+		summary: func(w io.Writer) { summarizeFit(w, rep, f.output) }}.deliver(e)
 }
 
 // options checks the flags against each other and turns them into report

@@ -101,26 +101,9 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		}
 		return survey.WriteRatingCSV(w, t)
 	}
-	if f.output == "" {
-		if err := write(e.stdout); err != nil {
-			return err
-		}
-		if err := writeFigures(e.stderr, *plotDir, figs, l.inputs); err != nil {
-			return err
-		}
-		if format != "text" {
-			printWarnings(e.stderr, warnings)
-		}
-		return nil
-	}
-	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
-		return err
-	}
-	if err := writeFigures(e.stderr, *plotDir, figs, append([]string{f.output}, l.inputs...)); err != nil {
-		return err
-	}
-	summarizeRating(e.stderr, t, f.output, warnings)
-	return nil
+	return delivery{output: f.output, inputs: l.inputs, write: write, inline: format == "text", warnings: warnings,
+		plots: *plotDir, figs: figs,
+		summary: func(w io.Writer) { summarizeRating(w, t, f.output, warnings) }}.deliver(e)
 }
 
 // stageList returns the stages asked for, or the default range.

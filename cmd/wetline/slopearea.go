@@ -119,26 +119,9 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		}
 		return survey.WriteSlopeAreaText(w, rep)
 	}
-	if f.output == "" {
-		if err := write(e.stdout); err != nil {
-			return err
-		}
-		if err := writeFigures(e.stderr, f.plots, plotFigs, inputs); err != nil {
-			return err
-		}
-		if format == "json" {
-			printWarnings(e.stderr, rep.Warnings)
-		}
-		return nil
-	}
-	if err := survey.WriteFile(f.output, inputs, write); err != nil {
-		return err
-	}
-	if err := writeFigures(e.stderr, f.plots, plotFigs, inputs); err != nil {
-		return err
-	}
-	summarizeSlopeArea(e.stderr, rep, f.output)
-	return nil
+	return delivery{output: f.output, inputs: inputs, write: write, inline: format == "text", warnings: rep.Warnings,
+		plots: f.plots, figs: plotFigs,
+		summary: func(w io.Writer) { summarizeSlopeArea(w, rep, f.output) }}.deliver(e)
 }
 
 // slopeArea reads a reach and computes its slope-area report. It returns
