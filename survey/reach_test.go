@@ -9,8 +9,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/xuri/excelize/v2"
-
 	"wetline/rating"
 )
 
@@ -76,36 +74,10 @@ func TestReadReachCSV(t *testing.T) {
 	}
 }
 
-// reachWorkbook writes a workbook with the given sheets (first row the
-// header) and returns its path.
-func reachWorkbook(t *testing.T, dir string, sheets map[string][][]any, order []string) string {
-	t.Helper()
-	f := excelize.NewFile()
-	defer f.Close()
-	for i, name := range order {
-		if i == 0 {
-			f.SetSheetName("Sheet1", name)
-		} else if _, err := f.NewSheet(name); err != nil {
-			t.Fatal(err)
-		}
-		for r, row := range sheets[name] {
-			cell, _ := excelize.CoordinatesToCellName(1, r+1)
-			if err := f.SetSheetRow(name, cell, &row); err != nil {
-				t.Fatal(err)
-			}
-		}
-	}
-	path := filepath.Join(dir, "field.xlsx")
-	if err := f.SaveAs(path); err != nil {
-		t.Fatal(err)
-	}
-	return path
-}
-
 func TestReadReachWorkbook(t *testing.T) {
 	dir := reachFiles(t, map[string]string{"xs3.csv": reachSurveyCSV})
 	surveyRows := [][]any{{"station", "elevation", "n"}, {0, 12, 0.05}, {10, 10, 0.04}, {14, 9, 0.04}, {20, 10.4, 0.06}, {30, 12, nil}}
-	path := reachWorkbook(t, dir, map[string][][]any{
+	path := writeBook(t, dir, map[string][][]any{
 		"notes": {{"field notes"}},
 		"reach": {
 			{"section", "survey", "distance", "ws_left", "ws_right"},
@@ -126,7 +98,7 @@ func TestReadReachWorkbook(t *testing.T) {
 		t.Errorf("survey 2 = %+v", r.Surveys[1])
 	}
 	// An unknown sheet name is looked for as a file, and reported at the cell.
-	path2 := reachWorkbook(t, t.TempDir(), map[string][][]any{
+	path2 := writeBook(t, t.TempDir(), map[string][][]any{
 		"reach": {{"section", "survey", "distance", "ws_left", "ws_right"}, {"XS1", "XS-9", 0, 11.0, nil}},
 	}, []string{"reach"})
 	_, err = ReadReach(path2, "", SectionOptions{})

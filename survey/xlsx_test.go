@@ -9,8 +9,9 @@ import (
 	"github.com/xuri/excelize/v2"
 )
 
-// writeBook writes a workbook with the given sheets of rows.
-func writeBook(t *testing.T, sheets map[string][][]any, order []string) string {
+// writeBook writes dir/field.xlsx with the given sheets of rows, in order
+// (the first row of each is its header), and returns its path.
+func writeBook(t *testing.T, dir string, sheets map[string][][]any, order []string) string {
 	t.Helper()
 	f := excelize.NewFile()
 	defer f.Close()
@@ -27,7 +28,7 @@ func writeBook(t *testing.T, sheets map[string][][]any, order []string) string {
 			}
 		}
 	}
-	path := filepath.Join(t.TempDir(), "field.xlsx")
+	path := filepath.Join(dir, "field.xlsx")
 	if err := f.SaveAs(path); err != nil {
 		t.Fatal(err)
 	}
@@ -35,7 +36,7 @@ func writeBook(t *testing.T, sheets map[string][][]any, order []string) string {
 }
 
 func TestReadSectionWorkbook(t *testing.T) {
-	path := writeBook(t, map[string][][]any{
+	path := writeBook(t, t.TempDir(), map[string][][]any{
 		"XS-1": {{"station", "elevation"}, {0, 1}, {1, 0}},
 		"XS-2": {
 			{"Station (m)", "Elevation (m)", "n", "Mark", "Extra"},
@@ -65,7 +66,7 @@ func TestReadSectionWorkbook(t *testing.T) {
 }
 
 func TestReadSectionWorkbookErrors(t *testing.T) {
-	path := writeBook(t, map[string][][]any{
+	path := writeBook(t, t.TempDir(), map[string][][]any{
 		"XS-2": {{"station", "elevation", "n"}, {0, 1, 0.03}, {1, "1,5"}, {2, 1}},
 	}, []string{"XS-2"})
 	_, err := ReadSection(path, "XS-2", SectionOptions{})
