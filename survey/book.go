@@ -87,6 +87,19 @@ func (b *Book) Number(format string, v float64) (any, error) {
 	return Styled{id, v}, nil
 }
 
+// stickyNumber is Number for a run of summary items: after the first
+// error, kept in *err, it returns nil.
+func (b *Book) stickyNumber(format string, v float64, err *error) any {
+	if *err != nil {
+		return nil
+	}
+	x, e := b.Number(format, v)
+	if e != nil {
+		*err = e
+	}
+	return x
+}
+
 func decimalsFormat(d int) string {
 	if d <= 0 {
 		return "0"

@@ -140,16 +140,7 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 	var err error
 	// num styles a number with a format code (FormatSig3 chooses per
 	// value); undefined numbers leave the item out.
-	num := func(format string, v float64) any {
-		if err != nil {
-			return nil
-		}
-		x, e := b.Number(format, v)
-		if e != nil {
-			err = e
-		}
-		return x
-	}
+	num := func(format string, v float64) any { return b.stickyNumber(format, v, &err) }
 	add("site", r.Site, "")
 	add("read from", fw.Source, "")
 	add("program", "wetline "+version, "")

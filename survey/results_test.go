@@ -135,12 +135,7 @@ func writeResults(t *testing.T, rw survey.RatingWorkbook) *excelize.File {
 	if err := survey.WriteRatingWorkbook(&buf, rw); err != nil {
 		t.Fatal(err)
 	}
-	f, err := excelize.OpenReader(&buf, excelize.Options{RawCellValue: true})
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { f.Close() })
-	return f
+	return openWritten(t, &buf)
 }
 
 func numFmt(t *testing.T, f *excelize.File, sheet, cell string) string {

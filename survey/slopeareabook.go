@@ -73,16 +73,7 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 		version = "unknown"
 	}
 	var err error
-	num := func(format string, v float64) any {
-		if err != nil {
-			return nil
-		}
-		x, e := b.Number(format, v)
-		if e != nil {
-			err = e
-		}
-		return x
-	}
+	num := func(format string, v float64) any { return b.stickyNumber(format, v, &err) }
 	items := []SummaryItem{
 		{"reach table", saReachName(rep), ""},
 		{"program", "wetline " + version, ""},
