@@ -91,7 +91,9 @@ type sweeper struct {
 	// Running sums over fully wet segments at stage h: per subsection
 	// area, top width and perimeter, and over all of them area, top width
 	// and first moment about the surface.
-	subA, subT, subP    []float64
+	subA, subT, subP []float64
+	// subBuf is the unused rest of the current block of subsection slices.
+	subBuf              []SubWetted
 	area, width, moment float64
 	// Buckets by stage number k (compressed rows): segments that become
 	// partly wet at stage k are enter[enterAt[k]:enterAt[k+1]], those that
@@ -253,11 +255,27 @@ func (s *sweeper) addPart(w *Wetted, i int, h float64) float64 {
 	return mom
 }
 
+// subsBlock is how many stages' subsection slices are allocated at once.
+const subsBlock = 256
+
+// newSubs returns a fresh slice for one stage's subsections, cut from a
+// block shared with the next stages (each stage keeps its own part, so a
+// caller may hold on to it) to spare the allocator one call per stage.
+func (s *sweeper) newSubs() []SubWetted {
+	ns := len(s.subTemplate)
+	if len(s.subBuf) < ns {
+		s.subBuf = make([]SubWetted, ns*subsBlock)
+	}
+	out := s.subBuf[:ns:ns]
+	s.subBuf = s.subBuf[ns:]
+	return out
+}
+
 // at returns the wetted geometry at stage number k, a finite stage not
 // below the last one.
 func (s *sweeper) at(k int, stage float64) (Wetted, error) {
 	p := s.p
-	w := Wetted{Stage: stage, Subs: make([]SubWetted, len(s.subTemplate))}
+	w := Wetted{Stage: stage, Subs: s.newSubs()}
 	copy(w.Subs, s.subTemplate)
 	h := stage - p.z0
 	s.advance(h)
