@@ -7,6 +7,7 @@ import (
 	"sort"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // Sheet names of a fit results workbook that a rating workbook does not
@@ -21,7 +22,7 @@ const (
 // Only Report is needed.
 type FitWorkbook struct {
 	// Report is the gaugings report (a fit, or a comparison only).
-	Report *rating.GaugingReport
+	Report *gauged.Report
 	// Lookup holds the fitted rating at every hundredth of stage, marked
 	// where extrapolated (see FitLookupCells); none: no lookup sheet.
 	Lookup []LookupCell
@@ -38,7 +39,7 @@ type FitWorkbook struct {
 // table's top, marking the extrapolated ones. c is the hydraulic rating the
 // report was made with (nil when none). A report without a table gives no
 // cells; a range longer than MaxLookupStages is an ErrLookupRange error.
-func FitLookupCells(r *rating.GaugingReport, c *rating.HydraulicCurve) ([]LookupCell, error) {
+func FitLookupCells(r *gauged.Report, c *rating.HydraulicCurve) ([]LookupCell, error) {
 	if r.Fit == nil || r.Table == nil || len(r.Table.Rows) == 0 {
 		return nil, nil
 	}
@@ -183,7 +184,7 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 		add("standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
 		add("standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
 		if !math.IsNaN(f.MoreSegmentsP) {
-			add("one more segment", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", f.MoreSegmentsF, f.MoreSegmentsP, rating.PoorFitLevel), "")
+			add("one more segment", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", f.MoreSegmentsF, f.MoreSegmentsP, gauged.PoorFitLevel), "")
 		}
 	} else {
 		add("method", "comparison with the hydraulic rating only: no fit", "")
@@ -215,7 +216,7 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 }
 
 // writeGaugingsSheet writes one row per gauging, in input order.
-func writeGaugingsSheet(b *Book, r *rating.GaugingReport) error {
+func writeGaugingsSheet(b *Book, r *gauged.Report) error {
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
 	cols := []Column{
@@ -274,7 +275,7 @@ func writeGaugingsSheet(b *Book, r *rating.GaugingReport) error {
 }
 
 // writeFitTableSheet writes the fit's lookup table, extrapolated rows marked.
-func writeFitTableSheet(b *Book, u rating.Units, t *rating.FitTable) error {
+func writeFitTableSheet(b *Book, u rating.Units, t *gauged.FitTable) error {
 	L, Q := u.Length(), u.Discharge()
 	cols := []Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
@@ -307,7 +308,7 @@ func writeFitTableSheet(b *Book, u rating.Units, t *rating.FitTable) error {
 }
 
 // writeNByStageSheet writes the back-calculated n of each gauging, by stage.
-func writeNByStageSheet(b *Book, r *rating.GaugingReport) error {
+func writeNByStageSheet(b *Book, r *gauged.Report) error {
 	u := r.Units
 	c := r.Calibration
 	s, err := b.Table(SheetNByStage, []Column{
@@ -322,7 +323,7 @@ func writeNByStageSheet(b *Book, r *rating.GaugingReport) error {
 	if err != nil {
 		return err
 	}
-	pts := append([]rating.NPoint(nil), c.Points...)
+	pts := append([]gauged.NPoint(nil), c.Points...)
 	sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
 	for _, p := range pts {
 		if err := s.Row(p.Stage, p.Discharge, p.Rated, p.Factor, p.N, p.Subsection+1, p.Time); err != nil {

@@ -11,6 +11,8 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/rating/reach"
 	"wetline/survey"
 )
 
@@ -106,12 +108,12 @@ func TestWriteLookupCellsMarked(t *testing.T) {
 // for noise-free gaugings is the law they were drawn from.
 func TestWriteFitWorkbookNoSection(t *testing.T) {
 	law := func(h float64) float64 { return 8 * math.Pow(h-0.3, 2) } // closed form, invented
-	var gs []rating.Gauging
+	var gs []gauged.Gauging
 	t0 := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
 	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
-		gs = append(gs, rating.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: law(h), Quality: rating.Good})
+		gs = append(gs, gauged.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: law(h), Quality: rating.Good})
 	}
-	rep, err := rating.GaugingsReport(gs, rating.ReportOptions{Site: "test", Units: rating.SI})
+	rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -156,11 +158,11 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 // A slope-area report without a Monte Carlo analysis or figures: no
 // uncertainty or plots sheet, and the summary says so.
 func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
-	rep := survey.SlopeAreaReport{Result: rating.SlopeArea{
-		Method: rating.MethodSlopeArea, Units: rating.SI, Discharge: 12.5, Fall: 0.2, Length: 100,
-		Sections:   []rating.ReachSectionResult{{ID: "A", WaterSurface: 10.2}, {ID: "B", Distance: 100, WaterSurface: 10}},
-		Subreaches: []rating.Subreach{{From: "A", To: "B", Length: 100, Fall: 0.2, Discharge: 12.5}},
-		Checks:     []rating.ReachCheck{{Name: "froude A", Value: 1.2, Limit: 1, Relation: "<", Source: "test"}},
+	rep := survey.SlopeAreaReport{Result: reach.SlopeArea{
+		Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 12.5, Fall: 0.2, Length: 100,
+		Sections:   []reach.SectionResult{{ID: "A", WaterSurface: 10.2}, {ID: "B", Distance: 100, WaterSurface: 10}},
+		Subreaches: []reach.Subreach{{From: "A", To: "B", Length: 100, Fall: 0.2, Discharge: 12.5}},
+		Checks:     []reach.Check{{Name: "froude A", Value: 1.2, Limit: 1, Relation: "<", Source: "test"}},
 	}}
 	var buf bytes.Buffer
 	if err := survey.WriteSlopeAreaWorkbook(&buf, rep, nil); err != nil {

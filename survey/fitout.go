@@ -8,8 +8,7 @@ import (
 	"math"
 	"sort"
 	"strings"
-
-	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // FitTableColumns are the columns of a fitted lookup table as CSV, in
@@ -28,7 +27,7 @@ const GaugingTimeLayout = "2006-01-02T15:04:05"
 // (ComparisonColumns). Stages are gauge heights; undefined values are
 // empty cells. The CSV has no comment lines: the datum is stated by the
 // text and JSON reports.
-func WriteGaugingReportCSV(w io.Writer, r *rating.GaugingReport) error {
+func WriteGaugingReportCSV(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	if r.Table != nil {
 		writeRecord(bw, FitTableColumns)
@@ -63,7 +62,7 @@ func fitCSVText(s string) string {
 }
 
 // calPoint returns gauging i's back-calculated factor and n (NaN without).
-func calPoint(r *rating.GaugingReport, i int) (float64, float64) {
+func calPoint(r *gauged.Report, i int) (float64, float64) {
 	if r.Calibration == nil || i >= len(r.Calibration.Points) {
 		return math.NaN(), math.NaN()
 	}
@@ -129,7 +128,7 @@ type jsonBreak struct {
 // departure_percent and shift against the fit, and the same against the
 // hydraulic rating; each table row stage, discharge and extrapolated.
 // Stages are gauge heights. Parts that do not apply are null or empty.
-func WriteGaugingReportJSON(w io.Writer, r *rating.GaugingReport) error {
+func WriteGaugingReportJSON(w io.Writer, r *gauged.Report) error {
 	out := struct {
 		Site          string            `json:"site"`
 		Units         map[string]string `json:"units"`
@@ -206,7 +205,7 @@ func WriteGaugingReportJSON(w io.Writer, r *rating.GaugingReport) error {
 // the fitted equation with standard errors, every gauging's departures,
 // the back-calculated n, the lookup table with extrapolated rows marked,
 // the warnings and the caution.
-func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
+func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
@@ -242,7 +241,7 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 		}
 		p("  standard error of estimate %.2f %% (%.4f in ln Q)\n", f.StandardErrorPercent, f.StandardErrorLog)
 		if !math.IsNaN(f.MoreSegmentsP) {
-			p("  one more segment: F = %.2f, p = %.3g (poor fit below p = %g)\n", f.MoreSegmentsF, f.MoreSegmentsP, rating.PoorFitLevel)
+			p("  one more segment: F = %.2f, p = %.3g (poor fit below p = %g)\n", f.MoreSegmentsF, f.MoreSegmentsP, gauged.PoorFitLevel)
 		}
 	}
 	p("\nGaugings (departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its quality band):\n")
@@ -278,7 +277,7 @@ func WriteGaugingReportText(w io.Writer, r *rating.GaugingReport) error {
 		}
 		p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
 			which, c.Factor, fitFixed(c.StandardErrorPercent, 2))
-		pts := append([]rating.NPoint(nil), c.Points...)
+		pts := append([]gauged.NPoint(nil), c.Points...)
 		sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
 		p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
 		p("  %9s %9s %8s\n", "stage", "factor", "n")

@@ -10,6 +10,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // Column names of a gaugings table (matched case-insensitively; a unit in
@@ -29,7 +30,7 @@ const GaugingsSheet = "gaugings"
 // Gaugings is a list of discharge measurements read from a file.
 type Gaugings struct {
 	// Gaugings are in file order; each Source names its file and row.
-	Gaugings []rating.Gauging
+	Gaugings []gauged.Gauging
 	// File and Sheet say where the gaugings came from.
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
@@ -170,7 +171,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		return v, ok
 	}
 	for _, rec := range t.Records {
-		g := rating.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, cnote)}
+		g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, cnote)}
 		okAll := true
 		if s := t.Cell(rec, ct); s == "" {
 			add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))

@@ -12,6 +12,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
+	"wetline/rating/reach"
 	"wetline/subdivide"
 )
 
@@ -39,7 +40,7 @@ var (
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
-	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.MarkQualities, ", "))
+	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 )
 
@@ -54,8 +55,8 @@ type ReachRow struct {
 	Distance float64
 	// WSLeft and WSRight are the high-water-mark elevations; NaN when blank.
 	WSLeft, WSRight float64
-	// Quality is the marks' quality rating in lower case ("" when blank).
-	Quality string
+	// Quality is the marks' quality rating (Unrated when blank).
+	Quality rating.Quality
 	// Note is the note column.
 	Note string
 	// Row is the 1-based line or sheet row.
@@ -206,10 +207,9 @@ func ReachFromTable(t *Table) (*Reach, error) {
 		if marks == 0 {
 			add(rec, ReachColWSLeft, ErrNoHighWaterMark)
 		}
-		if q := strings.ToLower(t.Cell(rec, r.cols[ReachColQuality])); q != "" {
-			if _, ok := rating.QualitySD(q, rating.SI); !ok {
-				add(rec, ReachColQuality, ErrMarkQuality)
-			}
+		if q, err := rating.ParseQuality(t.Cell(rec, r.cols[ReachColQuality])); err != nil {
+			add(rec, ReachColQuality, ErrMarkQuality)
+		} else {
 			row.Quality = q
 		}
 		r.Rows = append(r.Rows, row)
@@ -251,13 +251,13 @@ func (r *Reach) Inputs() []string {
 
 // ReachSections compiles each section's survey for the slope-area method,
 // with its id, distance and marks, and the standard deviation of its marks
-// from their quality rating (rating.QualitySD; zero, the default, when
+// from their quality rating (rating.Quality.MarkSD; zero, the default, when
 // blank). Geometry errors name the survey file.
-func (r *Reach) ReachSections(u rating.Units) ([]rating.ReachSection, error) {
+func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 	if len(r.Surveys) != len(r.Rows) {
 		return nil, errors.New("survey: reach surveys not read")
 	}
-	out := make([]rating.ReachSection, len(r.Rows))
+	out := make([]reach.Section, len(r.Rows))
 	for i, row := range r.Rows {
 		sv := r.Surveys[i]
 		if sv.Section.N == nil {
@@ -267,20 +267,18 @@ func (r *Reach) ReachSections(u rating.Units) ([]rating.ReachSection, error) {
 		if err != nil {
 			return nil, &ParseError{File: sv.File, Sheet: sv.Sheet, Err: err}
 		}
-		out[i] = rating.ReachSection{ID: row.ID, Geometry: g, Distance: row.Distance,
+		out[i] = reach.Section{ID: row.ID, Geometry: g, Distance: row.Distance,
 			Left: row.WSLeft, Right: row.WSRight}
-		if row.Quality != "" {
-			out[i].MarkSD, _ = rating.QualitySD(row.Quality, u)
-		}
+		out[i].MarkSD, _ = row.Quality.MarkSD(u)
 	}
 	return out, nil
 }
 
 // PlaceError positions an error of the slope-area computation on the
-// reach table when it concerns one section (a rating.ReachSectionError), and
+// reach table when it concerns one section (a reach.SectionError), and
 // returns other errors prefixed with the reach file.
 func (r *Reach) PlaceError(err error) error {
-	var se *rating.ReachSectionError
+	var se *reach.SectionError
 	if errors.As(err, &se) && se.Index >= 0 && se.Index < len(r.Rows) {
 		col := ReachColDistance
 		switch se.Field {

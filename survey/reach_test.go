@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/reach"
 )
 
 const reachSurveyCSV = `station,elevation,n,mark
@@ -49,7 +50,7 @@ func TestReadReachCSV(t *testing.T) {
 		t.Fatalf("%d rows, %d surveys", len(r.Rows), len(r.Surveys))
 	}
 	a, b := r.Rows[0], r.Rows[1]
-	if a.ID != "A" || a.Distance != 0 || a.WSLeft != 10.9 || a.WSRight != 10.8 || a.Quality != "good" || a.Note != "upstream" || a.Row != 3 {
+	if a.ID != "A" || a.Distance != 0 || a.WSLeft != 10.9 || a.WSRight != 10.8 || a.Quality != rating.Good || a.Note != "upstream" || a.Row != 3 {
 		t.Errorf("row A = %+v", a)
 	}
 	if b.Path != filepath.Join(dir, "sub", "b.csv") || !math.IsNaN(b.WSLeft) || b.WSRight != 10.6 || b.Distance != 120.5 {
@@ -69,7 +70,7 @@ func TestReadReachCSV(t *testing.T) {
 	if math.Abs(secs[0].MarkSD-0.10*0.3048) > 1e-12 || secs[1].MarkSD != 0 {
 		t.Errorf("mark SD %g %g", secs[0].MarkSD, secs[1].MarkSD)
 	}
-	if _, err := rating.SolveSlopeArea(secs, rating.SlopeAreaOptions{}); err != nil {
+	if _, err := reach.SolveSlopeArea(secs, reach.SlopeAreaOptions{}); err != nil {
 		t.Errorf("solve: %v", err)
 	}
 }
@@ -171,9 +172,9 @@ func TestReachSectionErrorPosition(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	_, err = rating.SolveSlopeArea(secs, rating.SlopeAreaOptions{})
+	_, err = reach.SolveSlopeArea(secs, reach.SlopeAreaOptions{})
 	err = r.PlaceError(err)
-	if !errors.Is(err, rating.ErrDrySection) || !strings.Contains(err.Error(), "reach.csv:3:4") {
+	if !errors.Is(err, reach.ErrDrySection) || !strings.Contains(err.Error(), "reach.csv:3:4") {
 		t.Errorf("err = %v", err)
 	}
 }

@@ -3,8 +3,7 @@ package survey
 import (
 	"fmt"
 	"io"
-
-	"wetline/rating"
+	"wetline/rating/reach"
 )
 
 // Sheet names of a slope-area results workbook besides SheetSummary and
@@ -90,7 +89,7 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 		add("band", "no Monte Carlo analysis was run", "")
 	}
 	switch r.Method {
-	case rating.MethodSlopeArea:
+	case reach.MethodSlopeArea:
 		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
 		add("reach length", num("0.0", r.Length), L)
 		add("fall", num("0.000", r.Fall), L)
@@ -137,7 +136,7 @@ func writeSAInputs(b *Book, rep SlopeAreaReport) error {
 		vals := []any{sec.ID, nil, sec.Distance, sec.Left, sec.Right, nil, nil, sec.WaterSurface, sec.MarksUsed}
 		if rep.Reach != nil && i < len(rep.Reach.Rows) {
 			rr := rep.Reach.Rows[i]
-			vals[1], vals[5], vals[6] = rr.Survey, rr.Quality, rr.Note
+			vals[1], vals[5], vals[6] = rr.Survey, rr.Quality.String(), rr.Note
 		}
 		if err := s.Row(vals...); err != nil {
 			return err

@@ -7,8 +7,7 @@ import (
 	"math"
 	"strings"
 	"text/tabwriter"
-
-	"wetline/rating"
+	"wetline/rating/reach"
 )
 
 // SlopeAreaReport is everything a slope-area report says: the reach as
@@ -19,9 +18,9 @@ type SlopeAreaReport struct {
 	// were built otherwise).
 	Reach *Reach
 	// Result is the slope-area (or slope-conveyance) computation.
-	Result rating.SlopeArea
+	Result reach.SlopeArea
 	// Uncertainty is the Monte Carlo analysis; nil when none was run.
-	Uncertainty *rating.ReachUncertainty
+	Uncertainty *reach.Uncertainty
 	// Warnings gathers the reach's, the result's and the analysis's.
 	Warnings []string
 	// Version is the program version stated in the report.
@@ -132,7 +131,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
 			Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
 			Froude: Float(s.Froude)}
 		if rep.Reach != nil && i < len(rep.Reach.Rows) {
-			js.Survey, js.Quality = rep.Reach.Rows[i].Survey, rep.Reach.Rows[i].Quality
+			js.Survey, js.Quality = rep.Reach.Rows[i].Survey, rep.Reach.Rows[i].Quality.String()
 		}
 		out.Sections = append(out.Sections, js)
 	}
@@ -200,7 +199,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	}
 
 	title := "Slope-area flood peak"
-	if r.Method == rating.MethodSlopeConveyance {
+	if r.Method == reach.MethodSlopeConveyance {
 		title = "Single-section slope-conveyance flood peak (weaker method)"
 	}
 	if rep.Reach != nil {
@@ -219,7 +218,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 			saSig(un.P05), saSig(un.P95), Q, saSig(un.P50), un.Draws-un.Failed)
 	}
 	switch r.Method {
-	case rating.MethodSlopeArea:
+	case reach.MethodSlopeArea:
 		line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
 		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", saSig(r.SubreachMin), saSig(r.SubreachMax), Q, saFixed(100*r.SubreachSpread, 1))
 		line("  reach         length %s %s, fall %s %s, water surface from %s marks", saFixed(r.Length, 1), L, saFixed(r.Fall, 3), L, saSideWords(r.Side))
@@ -234,7 +233,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 		row := []string{s.ID, saFixed(s.Distance, 1), saFixed(s.Left, 3), saFixed(s.Right, 3), saFixed(s.WaterSurface, 3), "", "", ""}
 		if rep.Reach != nil && i < len(rep.Reach.Rows) {
 			rr := rep.Reach.Rows[i]
-			row[5], row[6], row[7] = saDash(rr.Quality), rr.Survey, rr.Note
+			row[5], row[6], row[7] = saDash(rr.Quality.String()), rr.Survey, rr.Note
 		}
 		rows = append(rows, row)
 	}
@@ -319,11 +318,11 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	return err
 }
 
-func saSideWords(s rating.Side) string {
+func saSideWords(s reach.Side) string {
 	switch s {
-	case rating.LeftSide:
+	case reach.LeftSide:
 		return "the left"
-	case rating.RightSide:
+	case reach.RightSide:
 		return "the right"
 	}
 	return "the mean of the left and right"

@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
@@ -47,7 +48,7 @@ func (c *calibrateFlags) apply(l *loaded, slope float64, changed func(string) bo
 	}
 	curve := rating.HydraulicCurve{Geometry: l.geom, Datum: c.datum,
 		Options: rating.Options{Slope: slope, Units: l.units, Geometry: l.geomOpt}}
-	cal, err := rating.Calibrate(gs.Gaugings, curve, c.channelOnly)
+	cal, err := gauged.Calibrate(gs.Gaugings, curve, c.channelOnly)
 	if err != nil {
 		return fmt.Errorf("%s: %w", c.gaugings, err)
 	}

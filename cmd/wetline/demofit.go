@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
@@ -36,7 +37,7 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 	}
 	hyd := &rating.HydraulicCurve{Geometry: l.geom, Datum: demoDatum,
 		Options: rating.Options{Slope: demoSlope, Units: l.units, Geometry: l.geomOpt}}
-	rep, err := rating.GaugingsReport(gs.Gaugings, rating.ReportOptions{
+	rep, err := gauged.Analyze(gs.Gaugings, gauged.Options{
 		Site: l.survey.Section.Name, Units: l.units, Hydraulic: hyd,
 	})
 	if err != nil {

@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
@@ -102,7 +103,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	if opt.Site == "" {
 		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	}
-	rep, err := rating.GaugingsReport(gs.Gaugings, opt)
+	rep, err := gauged.Analyze(gs.Gaugings, opt)
 	if err != nil {
 		return fmt.Errorf("%s: %w", path, err)
 	}
@@ -142,8 +143,8 @@ func runFit(ctx context.Context, e *env, args []string) error {
 
 // options checks the flags against each other and turns them into report
 // options (without the section).
-func (f *fitFlags) options(changed func(string) bool) (rating.ReportOptions, error) {
-	var opt rating.ReportOptions
+func (f *fitFlags) options(changed func(string) bool) (gauged.Options, error) {
+	var opt gauged.Options
 	if f.section == "" {
 		for _, name := range []string{"slope", "datum", "channel-only", "compare-only", "sheet", "n", "banks", "connected", "no-extend"} {
 			if changed(name) {
@@ -179,8 +180,8 @@ func (f *fitFlags) options(changed func(string) bool) (rating.ReportOptions, err
 	if k == 0 {
 		k = 1
 	}
-	if k < 1 || k > rating.MaxSegments {
-		return opt, usagef("fit: --segments %d: want 1 to %d", k, rating.MaxSegments)
+	if k < 1 || k > gauged.MaxSegments {
+		return opt, usagef("fit: --segments %d: want 1 to %d", k, gauged.MaxSegments)
 	}
 	opt.Fit.Segments, opt.Fit.Breaks = k, f.breaks
 	switch z := strings.ToLower(strings.TrimSpace(f.zeroFlow)); z {
@@ -205,7 +206,7 @@ func (f *fitFlags) options(changed func(string) bool) (rating.ReportOptions, err
 }
 
 // summarizeFit prints the console summary of a written gaugings report.
-func summarizeFit(w io.Writer, r *rating.GaugingReport, path string) {
+func summarizeFit(w io.Writer, r *gauged.Report, path string) {
 	fmt.Fprintf(w, "wrote %s: %d gaugings", path, len(r.Gaugings))
 	if r.Comparison != nil {
 		fmt.Fprintf(w, "; gauge datum: elevation = gauge height + %s %s", survey.FormatFloat(r.Datum), r.Units.Length())

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
@@ -14,7 +15,7 @@ import (
 // hydraulic rating the report was made with, nil when none) and the fit
 // figure. A stage range too long for a lookup sheet leaves the sheet out
 // with a warning. figs are figures already drawn (nil: draw them).
-func fitBook(rep *rating.GaugingReport, c *rating.HydraulicCurve, sources []string, site, base string, figs []figureFile) (survey.FitWorkbook, error) {
+func fitBook(rep *gauged.Report, c *rating.HydraulicCurve, sources []string, site, base string, figs []figureFile) (survey.FitWorkbook, error) {
 	fw := survey.FitWorkbook{Report: rep, Version: Version, Source: strings.Join(sources, "; ")}
 	cells, err := survey.FitLookupCells(rep, c)
 	switch {

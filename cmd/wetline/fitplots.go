@@ -6,14 +6,14 @@ import (
 	"math"
 
 	"wetline/plotting"
-	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // fitFigures draws the rating figure of a gaugings report in memory: the
 // gaugings by quality against the hydraulic rating and the fitted rating
 // (extrapolated rows dashed) with its confidence band. Stages are gauge
 // heights.
-func fitFigures(rep *rating.GaugingReport, site, base string) ([]figureFile, []string, error) {
+func fitFigures(rep *gauged.Report, site, base string) ([]figureFile, []string, error) {
 	rp := plotting.RatingPlot{Site: site, Section: rep.Site, Units: rep.Units}
 	var sub []string
 	if rep.Curve != nil {

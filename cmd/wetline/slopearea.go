@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/rating/reach"
 	"wetline/subdivide"
 	"wetline/survey"
 )
@@ -37,9 +38,9 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	fs.StringVar(&f.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
-	fs.IntVar(&f.draws, "draws", rating.DefaultReachDraws, "Monte Carlo draws for the uncertainty band (0: none)")
+	fs.IntVar(&f.draws, "draws", reach.DefaultDraws, "Monte Carlo draws for the uncertainty band (0: none)")
 	fs.Uint64Var(&f.seed, "seed", 1, "random seed of the Monte Carlo draws")
-	fs.Float64Var(&f.nCV, "n-cv", rating.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none)")
+	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none)")
 	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides; 0: none)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
 	fs.BoolVar(&f.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
@@ -52,18 +53,18 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 }
 
 // check validates the flags that need no data.
-func (f *slopeAreaFlags) check() (rating.Units, rating.Side, error) {
+func (f *slopeAreaFlags) check() (rating.Units, reach.Side, error) {
 	u, err := rating.ParseUnits(f.units)
 	if err != nil {
 		return u, 0, usageError{err}
 	}
-	side, err := rating.ParseSide(f.side)
+	side, err := reach.ParseSide(f.side)
 	if err != nil {
 		return u, side, usageError{err}
 	}
 	switch {
-	case f.draws < 0 || f.draws > rating.MaxReachDraws:
-		return u, side, usagef("--draws %d: want 0 to %d", f.draws, rating.MaxReachDraws)
+	case f.draws < 0 || f.draws > reach.MaxDraws:
+		return u, side, usagef("--draws %d: want 0 to %d", f.draws, reach.MaxDraws)
 	case !(f.nCV >= 0) || math.IsInf(f.nCV, 0):
 		return u, side, usagef("--n-cv %v: want 0 or more", f.nCV)
 	case f.markSD < 0 || math.IsInf(f.markSD, 0):
@@ -132,34 +133,34 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 	if err != nil {
 		return rep, nil, err
 	}
-	reach, err := survey.ReadReach(path, f.sheet, survey.SectionOptions{})
+	rt, err := survey.ReadReach(path, f.sheet, survey.SectionOptions{})
 	if err != nil {
 		return rep, nil, err
 	}
-	rep.Reach = reach
-	inputs := reach.Inputs()
+	rep.Reach = rt
+	inputs := rt.Inputs()
 	if f.output != "" {
 		if err := survey.CheckOutput(f.output, inputs); err != nil {
 			return rep, nil, err
 		}
 	}
-	secs, err := reach.ReachSections(u)
+	secs, err := rt.ReachSections(u)
 	if err != nil {
 		return rep, nil, err
 	}
-	opt := rating.SlopeAreaOptions{Units: u, Side: side,
+	opt := reach.SlopeAreaOptions{Units: u, Side: side,
 		Geometry: subdivide.Options{Connected: f.connected, NoExtend: f.noExtend}}
 	if !math.IsNaN(f.markSpread) {
 		opt.MarkSpread = f.markSpread
 	}
-	rep.Warnings = append(rep.Warnings, reach.Warnings...)
+	rep.Warnings = append(rep.Warnings, rt.Warnings...)
 	if len(secs) == 1 {
 		if f.slope == 0 {
-			return rep, nil, reach.PlaceError(rating.ErrTooFewSections)
+			return rep, nil, rt.PlaceError(reach.ErrTooFewSections)
 		}
-		res, err := rating.SlopeConveyance(secs[0], f.slope, opt)
+		res, err := reach.SlopeConveyance(secs[0], f.slope, opt)
 		if err != nil {
-			return rep, nil, reach.PlaceError(err)
+			return rep, nil, rt.PlaceError(err)
 		}
 		rep.Result = res
 		rep.Warnings = append(rep.Warnings, res.Warnings...)
@@ -168,14 +169,14 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 	if f.slope != 0 {
 		return rep, nil, usagef("--slope is only for a reach of one section (the slope-conveyance estimate); this reach has %d", len(secs))
 	}
-	res, err := rating.SolveSlopeArea(secs, opt)
+	res, err := reach.SolveSlopeArea(secs, opt)
 	if err != nil {
-		return rep, nil, reach.PlaceError(err)
+		return rep, nil, rt.PlaceError(err)
 	}
 	rep.Result = res
 	rep.Warnings = append(rep.Warnings, res.Warnings...)
 	if f.draws > 0 {
-		mc := rating.ReachMonteCarloOptions{Draws: f.draws, Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
+		mc := reach.MonteCarloOptions{Draws: f.draws, Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
 		if mc.NCV == 0 {
 			mc.NCV = -1 // none
 		}
@@ -185,9 +186,9 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 		case f.markSD == 0:
 			mc.MarkSD = -1 // none
 		}
-		un, err := rating.ReachMonteCarlo(secs, opt, mc)
+		un, err := reach.MonteCarlo(secs, opt, mc)
 		if err != nil {
-			return rep, nil, reach.PlaceError(err)
+			return rep, nil, rt.PlaceError(err)
 		}
 		rep.Uncertainty = &un
 		if un.Failed > un.Draws/100 {

@@ -11,7 +11,7 @@ import (
 	"testing"
 
 	"wetline/plotting"
-	"wetline/rating"
+	"wetline/rating/reach"
 	"wetline/survey"
 )
 
@@ -187,7 +187,7 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 	if code != 0 || json.Unmarshal([]byte(out2), &doc) != nil || !(doc.Discharge > 0) {
 		t.Errorf("demo reach does not read back: %d %q", code, out2)
 	}
-	_ = rating.DefaultReachDraws
+	_ = reach.DefaultDraws
 }
 
 // TestSlopeAreaPlots checks that --plots writes both reach figures as PNGs

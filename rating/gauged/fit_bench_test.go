@@ -1,9 +1,10 @@
-package rating_test
+package gauged_test
 
 import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
@@ -16,7 +17,7 @@ func BenchmarkFitPatuxent(b *testing.B) {
 	for _, k := range []int{1, 2, 3} {
 		b.Run(string(rune('0'+k))+"-segments", func(b *testing.B) {
 			for b.Loop() {
-				if _, err := rating.FitPowerLaw(gs.Gaugings, rating.FitOptions{Segments: k, Units: rating.US}); err != nil {
+				if _, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Segments: k, Units: rating.US}); err != nil {
 					b.Fatal(err)
 				}
 			}

@@ -1,10 +1,11 @@
-package rating
+package gauged
 
 import (
 	"errors"
 	"fmt"
 	"math"
 	"sort"
+	"wetline/rating"
 )
 
 // Basis says what a row of a fitted lookup table rests on.
@@ -58,7 +59,7 @@ type TableOptions struct {
 	// a section.
 	To float64
 	// Hydraulic, when set, carries the table above the highest gauging.
-	Hydraulic *HydraulicCurve
+	Hydraulic *rating.HydraulicCurve
 }
 
 // FitTable is a compact stage–discharge lookup table from a fit.
@@ -135,16 +136,16 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 			return t, fmt.Errorf("%w: stage %g %s is above %s at %g %s", ErrBeyondSection, opt.To, u.Length(), why, top, u.Length())
 		}
 		if !(opt.To > lo) {
-			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", ErrStages, opt.To, lo)
+			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
 		}
 		top = opt.To
 	}
 	step := opt.Step
 	if !(step > 0) || math.IsInf(step, 0) {
-		step = NiceStep((top - lo) / MaxDefaultRows)
+		step = rating.NiceStep((top - lo) / rating.MaxDefaultRows)
 	}
-	if (top-lo)/step > MaxStages {
-		return t, fmt.Errorf("%w: step %g is too small for %g to %g", ErrStages, step, lo, top)
+	if (top-lo)/step > rating.MaxStages {
+		return t, fmt.Errorf("%w: step %g is too small for %g to %g", rating.ErrStages, step, lo, top)
 	}
 	must := []float64{lo, top}
 	if f.LowStage <= top {
@@ -170,7 +171,7 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 			stages = append(stages, h)
 		}
 	}
-	stages = SortedStages(stages)
+	stages = rating.SortedStages(stages)
 	sort.Float64s(stages)
 	for _, h := range stages {
 		r, err := t.rule(f, c, h)
@@ -196,7 +197,7 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 // its band) up to the highest gauging, Basis BelowGaugings below the
 // lowest one, and above the highest gauging, with a section, the
 // hydraulic discharge times ScaleFactor.
-func (t *FitTable) rule(f *Fit, c *HydraulicCurve, h float64) (FitRow, error) {
+func (t *FitTable) rule(f *Fit, c *rating.HydraulicCurve, h float64) (FitRow, error) {
 	r := FitRow{Stage: h, Hydraulic: math.NaN(), Lower: math.NaN(), Upper: math.NaN()}
 	if c != nil {
 		q, err := c.Discharge(h)
@@ -229,7 +230,7 @@ const TableEdge = 1e-9
 // none). It is how a finer table (every hundredth of stage, say) is made
 // without interpolating between rows. A stage outside the table is an
 // ErrBeyondSection error.
-func (t *FitTable) At(f *Fit, c *HydraulicCurve, h float64) (FitRow, error) {
+func (t *FitTable) At(f *Fit, c *rating.HydraulicCurve, h float64) (FitRow, error) {
 	if len(t.Rows) == 0 || math.IsNaN(h) || h < t.Rows[0].Stage-TableEdge || h > t.Rows[len(t.Rows)-1].Stage+TableEdge {
 		return FitRow{}, fmt.Errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
 	}

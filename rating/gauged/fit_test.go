@@ -1,4 +1,4 @@
-package rating_test
+package gauged_test
 
 import (
 	"errors"
@@ -11,15 +11,16 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/survey"
 )
 
 // law returns gaugings of a segmented power law (shared offset e, continuous
 // at the breaks) at the given stages, with quality q.
-func law(e float64, c1 float64, b []float64, breaks []float64, stages []float64, q rating.Quality) []rating.Gauging {
-	out := make([]rating.Gauging, len(stages))
+func law(e float64, c1 float64, b []float64, breaks []float64, stages []float64, q rating.Quality) []gauged.Gauging {
+	out := make([]gauged.Gauging, len(stages))
 	for i, h := range stages {
-		out[i] = rating.Gauging{Stage: h, Discharge: lawQ(e, c1, b, breaks, h), Quality: q}
+		out[i] = gauged.Gauging{Stage: h, Discharge: lawQ(e, c1, b, breaks, h), Quality: q}
 	}
 	return out
 }
@@ -65,11 +66,11 @@ func TestFitNoiseFree(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			gs := law(tc.e, tc.c1, tc.b, tc.breaks, tc.stages, rating.Good)
-			opt := rating.FitOptions{Segments: tc.segments}
+			opt := gauged.FitOptions{Segments: tc.segments}
 			if tc.given {
-				opt = rating.FitOptions{Breaks: tc.breaks, ZeroFlowFixed: true, ZeroFlow: tc.e}
+				opt = gauged.FitOptions{Breaks: tc.breaks, ZeroFlowFixed: true, ZeroFlow: tc.e}
 			}
-			f, err := rating.FitPowerLaw(gs, opt)
+			f, err := gauged.FitPowerLaw(gs, opt)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -118,7 +119,7 @@ func TestFitFixedZeroFlowMatchesRegression(t *testing.T) {
 		y[i] = math.Log(gs[i].Discharge)
 		w[i] = gs[i].Quality.Weight()
 	}
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.8})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.8})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,7 +170,7 @@ func TestFitNoiseStandardErrorAndBand(t *testing.T) {
 		for i := range gs {
 			gs[i].Discharge *= math.Exp(sigma * rng.NormFloat64())
 		}
-		f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+		f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -214,13 +215,13 @@ func TestFitHydeExcerpt(t *testing.T) {
 		t.Fatal(err)
 	}
 	ch, cq := tab.Column("gauge_height"), tab.Column("discharge")
-	var gs []rating.Gauging
+	var gs []gauged.Gauging
 	for _, rec := range tab.Records {
 		h, _, _ := tab.Float(rec, ch)
 		q, _, _ := tab.Float(rec, cq)
-		gs = append(gs, rating.Gauging{Stage: h, Discharge: q})
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: q})
 	}
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 2.0, Units: rating.US})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 2.0, Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -244,14 +245,14 @@ func TestFitPatuxent(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	one, err := rating.FitPowerLaw(gs.Gaugings, rating.FitOptions{Units: rating.US})
+	one, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !one.PoorFit || len(one.Warnings) == 0 || !strings.Contains(one.Warnings[0], "poorly") {
 		t.Errorf("one segment: poor %v, warnings %q", one.PoorFit, one.Warnings)
 	}
-	two, err := rating.FitPowerLaw(gs.Gaugings, rating.FitOptions{Segments: 2, Units: rating.US})
+	two, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Segments: 2, Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -285,23 +286,23 @@ func TestFitBadGaugings(t *testing.T) {
 	gs := law(0.5, 3, []float64{2}, nil, linspace(1, 3, 8), rating.Good)
 	gs[3].Source = "g.csv:5"
 	gs[3].Stage = 0.4
-	_, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
-	if !errors.Is(err, rating.ErrBelowZero) || !strings.Contains(err.Error(), "g.csv:5") {
+	_, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
+	if !errors.Is(err, gauged.ErrBelowZero) || !strings.Contains(err.Error(), "g.csv:5") {
 		t.Errorf("stage below e: err = %v", err)
 	}
 	gs = law(0.5, 3, []float64{2}, nil, linspace(1, 3, 8), rating.Good)
 	gs[2].Discharge, gs[2].Source = 0, "g.csv:4"
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(f.Warnings) == 0 || !strings.Contains(f.Warnings[0], "g.csv:4") || !f.Residuals[2].Excluded {
 		t.Errorf("zero discharge: warnings %q", f.Warnings)
 	}
-	if _, err := rating.FitPowerLaw(gs[:3], rating.FitOptions{}); !errors.Is(err, rating.ErrFewGaugings) {
+	if _, err := gauged.FitPowerLaw(gs[:3], gauged.FitOptions{}); !errors.Is(err, gauged.ErrFewGaugings) {
 		t.Errorf("three gaugings: err = %v", err)
 	}
-	if _, err := rating.FitPowerLaw(gs, rating.FitOptions{Segments: 4}); !errors.Is(err, rating.ErrSegments) {
+	if _, err := gauged.FitPowerLaw(gs, gauged.FitOptions{Segments: 4}); !errors.Is(err, gauged.ErrSegments) {
 		t.Errorf("four segments: err = %v", err)
 	}
 }

@@ -1,4 +1,4 @@
-package rating
+package reach
 
 import (
 	"errors"
@@ -6,6 +6,7 @@ import (
 	"math"
 	"strings"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -85,8 +86,8 @@ func ParseSide(s string) (Side, error) {
 	return MeanSide, fmt.Errorf("side %q: want mean, left or right", s)
 }
 
-// ReachSection is one surveyed section of a slope-area reach.
-type ReachSection struct {
+// Section is one surveyed section of a slope-area reach.
+type Section struct {
 	// ID names the section in reports.
 	ID string
 	// Geometry is the section's ground, n and banks.
@@ -98,7 +99,7 @@ type ReachSection struct {
 	// (length unit); NaN where there is no mark.
 	Left, Right float64
 	// MarkSD is the standard deviation of one mark's elevation (length
-	// unit) used by ReachMonteCarlo; zero means ReachMonteCarloOptions.MarkSD.
+	// unit) used by MonteCarlo; zero means MonteCarloOptions.MarkSD.
 	MarkSD float64
 }
 
@@ -106,7 +107,7 @@ type ReachSection struct {
 // the default of every field.
 type SlopeAreaOptions struct {
 	// Units is the unit system of every input and result (default SI).
-	Units Units
+	Units rating.Units
 	// Geometry controls pockets and end extension, as for a rating.
 	Geometry subdivide.Options
 	// Side picks the marks that set each water surface (default the mean).
@@ -123,7 +124,7 @@ func (o SlopeAreaOptions) markSpread() float64 {
 	if o.MarkSpread > 0 {
 		return o.MarkSpread
 	}
-	if o.Units == US {
+	if o.Units == rating.US {
 		return MarkSpreadUS
 	}
 	return MarkSpreadSI
@@ -133,7 +134,7 @@ func (o SlopeAreaOptions) minFall() float64 {
 	if o.MinFall > 0 {
 		return o.MinFall
 	}
-	if o.Units == US {
+	if o.Units == rating.US {
 		return MinFallUS
 	}
 	return MinFallSI
@@ -152,7 +153,7 @@ type SlopeArea struct {
 	// Method is MethodSlopeArea or MethodSlopeConveyance.
 	Method string
 	// Units is the unit system of every value.
-	Units Units
+	Units rating.Units
 	// Side is how each water surface was taken from its marks.
 	Side Side
 	// Discharge is the peak discharge from the whole reach solved at once.
@@ -162,7 +163,7 @@ type SlopeArea struct {
 	// Fall is zero and Slope is the slope given.
 	Fall, Length, Slope float64
 	// Sections holds each section's hydraulics at Discharge, upstream first.
-	Sections []ReachSectionResult
+	Sections []SectionResult
 	// Subreaches holds each pair of adjacent sections, upstream first.
 	Subreaches []Subreach
 	// SubreachMin and SubreachMax are the least and greatest subreach
@@ -172,13 +173,13 @@ type SlopeArea struct {
 	// MarkSpread and MinFall are the tolerances the checks used.
 	MarkSpread, MinFall float64
 	// Checks are the quality checks, in report order.
-	Checks []ReachCheck
+	Checks []Check
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 }
 
-// ReachSectionResult is one section's hydraulics at the reach discharge.
-type ReachSectionResult struct {
+// SectionResult is one section's hydraulics at the reach discharge.
+type SectionResult struct {
 	ID string
 	// Distance is the position along the channel.
 	Distance float64
@@ -198,7 +199,7 @@ type ReachSectionResult struct {
 	// VelocityHead; Froude √(α·Q²·T/(g·A³)).
 	Velocity, VelocityHead, EnergyGrade, Froude float64
 	// Subs is each subsection's share; Discharge is Q·Ki/K.
-	Subs []SubRow
+	Subs []rating.SubRow
 	// Ground is the section's ground line with bank points inserted (nil
 	// when the geometry is not a surveyed *subdivide.Profile).
 	Ground []subdivide.Point
@@ -227,8 +228,8 @@ type Subreach struct {
 	ConveyanceRatio float64
 }
 
-// ReachCheck is one quality check of a slope-area reach.
-type ReachCheck struct {
+// Check is one quality check of a slope-area reach.
+type Check struct {
 	// Name says what is checked and where, e.g. "froude XS-2".
 	Name string
 	// Value is the measured quantity; Limit the criterion; Relation how
@@ -242,7 +243,7 @@ type ReachCheck struct {
 }
 
 // Status returns "pass" or "warn".
-func (c ReachCheck) Status() string {
+func (c Check) Status() string {
 	if c.Pass {
 		return "pass"
 	}
@@ -259,8 +260,8 @@ var (
 	ErrNoReachSolution = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
 )
 
-// ReachSectionError reports a problem with one section of a reach.
-type ReachSectionError struct {
+// SectionError reports a problem with one section of a reach.
+type SectionError struct {
 	// Index is the 0-based index of the section; ID its name.
 	Index int
 	ID    string
@@ -270,17 +271,17 @@ type ReachSectionError struct {
 	Err   error
 }
 
-func (e *ReachSectionError) Error() string {
+func (e *SectionError) Error() string {
 	return fmt.Sprintf("section %s: %v", e.ID, e.Err)
 }
 
-func (e *ReachSectionError) Unwrap() error { return e.Err }
+func (e *SectionError) Unwrap() error { return e.Err }
 
 // saWaterSurface returns a section's water surface from its marks, the
 // number of marks used, and a warning when the chosen side was missing.
-func saWaterSurface(s ReachSection, side Side) (ws float64, used int, warn string) {
+func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 	l, r := s.Left, s.Right
-	hasL, hasR := finiteAll(l), finiteAll(r)
+	hasL, hasR := finite(l), finite(r)
 	switch {
 	case hasL && hasR:
 		switch side {
@@ -314,7 +315,7 @@ type saSectionState struct {
 
 // saState wets a section at ws, with each subsection's n multiplied by
 // nmul[i] (nil for none).
-func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Options, u Units, st *saSectionState) error {
+func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Options, u rating.Units, st *saSectionState) error {
 	w, err := g.At(ws, gopt)
 	if err != nil {
 		return err
@@ -335,9 +336,9 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 			n *= nmul[i]
 		}
 		if !(n > 0) {
-			return fmt.Errorf("stations %g to %g: %w", sw.From, sw.To, ErrNoN)
+			return fmt.Errorf("stations %g to %g: %w", sw.From, sw.To, rating.ErrNoN)
 		}
-		k := Conveyance(sw.Area, sw.WettedPerimeter, n, u)
+		k := rating.Conveyance(sw.Area, sw.WettedPerimeter, n, u)
 		st.subK[i] = k
 		kt += k
 		k3a2 += k * k * k / (sw.Area * sw.Area)
@@ -353,7 +354,7 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 
 // saSubreachTerm returns the denominator term of one subreach,
 // L/(Ku·Kd) − (1−k)·(cu − cd)/(2g), and whether it expands.
-func saSubreachTerm(l float64, up, dn *saSectionState, u Units) (term float64, expanding bool) {
+func saSubreachTerm(l float64, up, dn *saSectionState, u rating.Units) (term float64, expanding bool) {
 	expanding = up.c > dn.c
 	k := ContractingEddyK
 	if expanding {
@@ -363,7 +364,7 @@ func saSubreachTerm(l float64, up, dn *saSectionState, u Units) (term float64, e
 }
 
 // saReachQ solves the whole reach for the water surfaces ws and states sts.
-func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) (float64, error) {
+func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units) (float64, error) {
 	var den float64
 	for j := 0; j+1 < len(secs); j++ {
 		t, _ := saSubreachTerm(secs[j+1].Distance-secs[j].Distance, &sts[j], &sts[j+1], u)
@@ -419,10 +420,10 @@ func saReachQ(secs []ReachSection, ws []float64, sts []saSectionState, u Units) 
 //	Water-Resources Investigations, book 3, chapter A2.
 //	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
 //
-// Errors are *ReachSectionError for a section at fault (distance not
+// Errors are *SectionError for a section at fault (distance not
 // increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
 // ErrNoReachSolution.
-func SolveSlopeArea(secs []ReachSection, opt SlopeAreaOptions) (SlopeArea, error) {
+func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	u := opt.Units
 	res := SlopeArea{Method: MethodSlopeArea, Units: u, Side: opt.Side,
 		MarkSpread: opt.markSpread(), MinFall: opt.minFall()}
@@ -494,25 +495,25 @@ func saSig(v float64) string {
 
 // saPrepare validates the sections, takes their water surfaces and wets
 // them. Warnings about marks and end extension go on res.
-func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []float64, used []int, sts []saSectionState, err error) {
+func saPrepare(secs []Section, opt SlopeAreaOptions, res *SlopeArea) (ws []float64, used []int, sts []saSectionState, err error) {
 	u := opt.Units
 	ws = make([]float64, len(secs))
 	used = make([]int, len(secs))
 	sts = make([]saSectionState, len(secs))
 	for i, s := range secs {
 		if s.Geometry == nil {
-			return nil, nil, nil, &ReachSectionError{i, s.ID, "geometry", errors.New("no geometry")}
+			return nil, nil, nil, &SectionError{i, s.ID, "geometry", errors.New("no geometry")}
 		}
 		if math.IsNaN(s.Distance) || math.IsInf(s.Distance, 0) {
-			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance", errors.New("distance is not a finite number")}
+			return nil, nil, nil, &SectionError{i, s.ID, "distance", errors.New("distance is not a finite number")}
 		}
 		if i > 0 && !(s.Distance > secs[i-1].Distance) {
-			return nil, nil, nil, &ReachSectionError{i, s.ID, "distance",
+			return nil, nil, nil, &SectionError{i, s.ID, "distance",
 				fmt.Errorf("%w: %g after %g", ErrDistances, s.Distance, secs[i-1].Distance)}
 		}
 		h, n, warn := saWaterSurface(s, opt.Side)
 		if n == 0 {
-			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", ErrNoMark}
+			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", ErrNoMark}
 		}
 		if warn != "" {
 			res.Warnings = append(res.Warnings, warn)
@@ -523,9 +524,9 @@ func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []
 				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
 					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
 			}
-			return nil, nil, nil, &ReachSectionError{i, s.ID, "water_surface", err}
+			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", err}
 		}
-		for _, w := range ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
+		for _, w := range rating.ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
 			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
 		}
 		if sts[i].w.Pools > 1 && !opt.Geometry.Connected {
@@ -537,25 +538,25 @@ func saPrepare(secs []ReachSection, opt SlopeAreaOptions, res *SlopeArea) (ws []
 }
 
 // saFillSections sets each section's hydraulics at discharge q.
-func saFillSections(res *SlopeArea, secs []ReachSection, ws []float64, used []int, sts []saSectionState, q float64) {
+func saFillSections(res *SlopeArea, secs []Section, ws []float64, used []int, sts []saSectionState, q float64) {
 	u := res.Units
-	res.Sections = make([]ReachSectionResult, len(secs))
+	res.Sections = make([]SectionResult, len(secs))
 	for i, s := range secs {
 		st := &sts[i]
 		w := st.w
-		r := ReachSectionResult{ID: s.ID, Distance: s.Distance, Left: s.Left, Right: s.Right,
+		r := SectionResult{ID: s.ID, Distance: s.Distance, Left: s.Left, Right: s.Right,
 			WaterSurface: ws[i], MarksUsed: used[i], Bottom: s.Geometry.Bottom(),
 			Area: w.Area, WettedPerimeter: w.WettedPerimeter, TopWidth: w.TopWidth,
 			HydraulicDepth: w.HydraulicDepth, Conveyance: st.k, Alpha: st.alpha,
-			Velocity: q / w.Area, Subs: make([]SubRow, len(w.Subs))}
+			Velocity: q / w.Area, Subs: make([]rating.SubRow, len(w.Subs))}
 		r.VelocityHead = st.c * q * q / (2 * u.Gravity())
 		r.EnergyGrade = r.WaterSurface + r.VelocityHead
-		r.Froude = FroudeNumber(q, w.Area, w.TopWidth, st.alpha, u)
+		r.Froude = rating.FroudeNumber(q, w.Area, w.TopWidth, st.alpha, u)
 		if p, ok := s.Geometry.(*subdivide.Profile); ok {
 			r.Ground = p.Points()
 		}
 		for j, sw := range w.Subs {
-			sr := SubRow{SubWetted: sw, Conveyance: st.subK[j], Velocity: math.NaN()}
+			sr := rating.SubRow{SubWetted: sw, Conveyance: st.subK[j], Velocity: math.NaN()}
 			sr.Discharge = q * st.subK[j] / st.k
 			if sw.Area > 0 {
 				sr.Velocity = sr.Discharge / sw.Area
@@ -579,7 +580,7 @@ const (
 
 // saChecks evaluates the quality criteria of a solved reach and adds a
 // warning for each that fails.
-func saChecks(res *SlopeArea) []ReachCheck {
+func saChecks(res *SlopeArea) []Check {
 	cs := saCheckList(res)
 	for _, c := range cs {
 		if !c.Pass {
@@ -590,8 +591,8 @@ func saChecks(res *SlopeArea) []ReachCheck {
 	return cs
 }
 
-func saCheckList(res *SlopeArea) []ReachCheck {
-	var cs []ReachCheck
+func saCheckList(res *SlopeArea) []Check {
+	var cs []Check
 	maxHV, meanD := 0.0, 0.0
 	for _, s := range res.Sections {
 		maxHV = math.Max(maxHV, s.VelocityHead)
@@ -600,29 +601,29 @@ func saCheckList(res *SlopeArea) []ReachCheck {
 	meanD /= float64(len(res.Sections))
 	if res.Method == MethodSlopeArea {
 		cs = append(cs,
-			ReachCheck{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
+			Check{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
 				Pass: res.Fall >= maxHV, Source: srcFallHV},
-			ReachCheck{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
+			Check{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
 				Pass: res.Fall >= res.MinFall, Source: srcMinFall},
-			ReachCheck{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
+			Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
 				Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
 				ratio = 1 / ratio
 			}
-			cs = append(cs, ReachCheck{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
+			cs = append(cs, Check{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
 			// The value is the change in velocity head downstream: a
 			// rise means the flow expands.
-			cs = append(cs, ReachCheck{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+			cs = append(cs, Check{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}
 	for _, s := range res.Sections {
-		cs = append(cs, ReachCheck{Name: "froude " + s.ID, Value: s.Froude, Limit: MaxFroude, Relation: "<",
+		cs = append(cs, Check{Name: "froude " + s.ID, Value: s.Froude, Limit: MaxFroude, Relation: "<",
 			Pass: s.Froude < MaxFroude, Source: srcFroude})
 	}
 	for _, s := range res.Sections {
@@ -630,7 +631,7 @@ func saCheckList(res *SlopeArea) []ReachCheck {
 			continue
 		}
 		d := math.Abs(s.Left - s.Right)
-		cs = append(cs, ReachCheck{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
+		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
 	}
 	return cs
@@ -648,23 +649,26 @@ const MarkSpreadEpsilon = 1e-9
 //
 // Reference: Chow (1959), Open-Channel Hydraulics, section 6-4 (uniform
 // flow); Dalrymple & Benson (1967) for the slope-area method it replaces.
-func SlopeConveyance(sec ReachSection, s float64, opt SlopeAreaOptions) (SlopeArea, error) {
+func SlopeConveyance(sec Section, s float64, opt SlopeAreaOptions) (SlopeArea, error) {
 	u := opt.Units
 	res := SlopeArea{Method: MethodSlopeConveyance, Units: u, Side: opt.Side, Slope: s,
 		MarkSpread: opt.markSpread(), MinFall: opt.minFall(),
 		SubreachMin: math.NaN(), SubreachMax: math.NaN(), SubreachSpread: math.NaN()}
 	if !(s > 0) || math.IsInf(s, 0) {
-		return res, fmt.Errorf("slope %v: %w", s, ErrSlope)
+		return res, fmt.Errorf("slope %v: %w", s, rating.ErrSlope)
 	}
 	res.Warnings = append(res.Warnings, "single-section slope-conveyance estimate Q = K·√S with an assumed slope: "+
 		"a weaker method than the slope-area method (no measured fall, no velocity-head change)")
-	ws, used, sts, err := saPrepare([]ReachSection{sec}, opt, &res)
+	ws, used, sts, err := saPrepare([]Section{sec}, opt, &res)
 	if err != nil {
 		return res, err
 	}
 	q := sts[0].k * math.Sqrt(s)
 	res.Discharge = q
-	saFillSections(&res, []ReachSection{sec}, ws, used, sts, q)
+	saFillSections(&res, []Section{sec}, ws, used, sts, q)
 	res.Checks = saChecks(&res)
 	return res, nil
 }
+
+// finite reports whether v is a number other than ±Inf.
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

@@ -1,4 +1,4 @@
-package rating_test
+package gauged_test
 
 import (
 	"math"
@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/subdivide"
 )
 
@@ -34,16 +35,16 @@ func compound(t *testing.T, nChan, nOver float64) *subdivide.Profile {
 
 // sample takes gaugings from the hydraulic rating of g at gauge heights
 // (datum 9.5 m: elevation = gauge height + 9.5).
-func sample(t *testing.T, g subdivide.Geometry, heights []float64) []rating.Gauging {
+func sample(t *testing.T, g subdivide.Geometry, heights []float64) []gauged.Gauging {
 	t.Helper()
 	c := rating.HydraulicCurve{Geometry: g, Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-	var gs []rating.Gauging
+	var gs []gauged.Gauging
 	for _, h := range heights {
 		q, err := c.Discharge(h)
 		if err != nil {
 			t.Fatal(err)
 		}
-		gs = append(gs, rating.Gauging{Stage: h, Discharge: q, Quality: rating.Good})
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: q, Quality: rating.Good})
 	}
 	return gs
 }
@@ -66,7 +67,7 @@ func TestCalibrateKnownN(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			gs := sample(t, tc.truth, heights)
 			c := rating.HydraulicCurve{Geometry: tc.surv, Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-			cal, err := rating.Calibrate(gs, c, tc.channelOnly)
+			cal, err := gauged.Calibrate(gs, c, tc.channelOnly)
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -97,7 +98,7 @@ func TestCalibrateChannelOnlyNoSolution(t *testing.T) {
 	gs := sample(t, compound(t, 0.030, 0.060), []float64{1.5, 3.4})
 	gs[1].Discharge = 1 // far below what the overbanks carry at 3.4
 	gs[1].Source = "g.csv:3"
-	cal, err := rating.Calibrate(gs, rating.HydraulicCurve{Geometry: surv, Options: rating.Options{Slope: 0.001}, Datum: 9.5}, true)
+	cal, err := gauged.Calibrate(gs, rating.HydraulicCurve{Geometry: surv, Options: rating.Options{Slope: 0.001}, Datum: 9.5}, true)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -119,11 +120,11 @@ func TestCompareRectangle(t *testing.T) {
 	manning := func(y float64) float64 {
 		return 1 / 0.03 * 8 * y * math.Pow(8*y/(8+2*y), 2.0/3) * math.Sqrt(0.002)
 	}
-	gs := []rating.Gauging{
+	gs := []gauged.Gauging{
 		{Stage: 2.5, Discharge: 1.10 * manning(1.5), Quality: rating.Good},
 		{Stage: 3.0, Discharge: 0.97 * manning(2.0), Quality: rating.Good},
 	}
-	cmp, err := rating.Compare(gs, c)
+	cmp, err := gauged.Compare(gs, c)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,21 +1,22 @@
-package rating
+package gauged
 
 import (
 	"errors"
 	"fmt"
 	"math"
+	"wetline/rating"
 )
 
-// ReportOptions configure a gaugings report. The zero value fits one
+// Options configure a gaugings report. The zero value fits one
 // power-law segment with e fitted and no section.
-type ReportOptions struct {
+type Options struct {
 	// Site names the site or section in reports.
 	Site string
 	// Units is the unit system of stages and discharges.
-	Units Units
+	Units rating.Units
 	// Hydraulic is the section's hydraulic rating at gauge heights (its
 	// Datum relates gauge height to elevation); nil without a section.
-	Hydraulic *HydraulicCurve
+	Hydraulic *rating.HydraulicCurve
 	// ChannelOnly back-calculates only the channel's n.
 	ChannelOnly bool
 	// CompareOnly compares the gaugings with the hydraulic rating and
@@ -39,15 +40,15 @@ type CurvePoint struct {
 	Hydraulic, Calibrated float64
 }
 
-// GaugingReport holds everything a report on gaugings shows: the
+// Report holds everything a report on gaugings shows: the
 // comparison with the hydraulic rating, the back-calculated n, the fit,
 // the lookup table and the hydraulic curve, for text, JSON, CSV, workbook
 // and plot writers alike. Fields that do not apply are nil.
-type GaugingReport struct {
+type Report struct {
 	// Site, Units and Datum (elevation of the gauge's zero in the survey's
 	// datum; NaN without a section) describe the data.
 	Site  string
-	Units Units
+	Units rating.Units
 	Datum float64
 	// Slope is the friction slope of the hydraulic rating (NaN without).
 	Slope float64
@@ -66,9 +67,9 @@ type GaugingReport struct {
 	Warnings []string
 }
 
-// GaugingsReport compares, calibrates and fits gaugings as opt says.
-func GaugingsReport(gs []Gauging, opt ReportOptions) (*GaugingReport, error) {
-	r := &GaugingReport{Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
+// Analyze compares, calibrates and fits gaugings as opt says.
+func Analyze(gs []Gauging, opt Options) (*Report, error) {
+	r := &Report{Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
 	c := opt.Hydraulic
 	if c == nil && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and e from the survey's control need a section")
@@ -122,9 +123,9 @@ func GaugingsReport(gs []Gauging, opt ReportOptions) (*GaugingReport, error) {
 }
 
 // curve fills the hydraulic curve at round gauge heights.
-func (r *GaugingReport) curve(c *HydraulicCurve) error {
+func (r *Report) curve(c *rating.HydraulicCurve) error {
 	lo, hi := c.Bottom(), c.Top()
-	step := NiceStep((hi - lo) / MaxDefaultRows)
+	step := rating.NiceStep((hi - lo) / rating.MaxDefaultRows)
 	hs := []float64{lo}
 	for i := math.Floor(lo/step) + 1; i*step < hi; i++ {
 		hs = append(hs, i*step)
@@ -134,15 +135,15 @@ func (r *GaugingReport) curve(c *HydraulicCurve) error {
 	for i, h := range hs {
 		elev[i] = h + c.Datum
 	}
-	t, err := Compute(c.Geometry, elev, c.Options)
+	t, err := rating.Compute(c.Geometry, elev, c.Options)
 	if err != nil {
 		return err
 	}
 	r.Warnings = append(r.Warnings, t.Warnings...)
-	var ct Table
+	var ct rating.Table
 	if r.Calibration != nil {
-		sc := ScaledN{Geometry: c.Geometry, Factor: r.Calibration.Factor, ChannelOnly: r.Calibration.ChannelOnly}
-		if ct, err = Compute(sc, elev, c.Options); err != nil {
+		sc := rating.ScaledN{Geometry: c.Geometry, Factor: r.Calibration.Factor, ChannelOnly: r.Calibration.ChannelOnly}
+		if ct, err = rating.Compute(sc, elev, c.Options); err != nil {
 			return err
 		}
 	}

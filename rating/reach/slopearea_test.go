@@ -1,10 +1,11 @@
-package rating
+package reach
 
 import (
 	"errors"
 	"math"
 	"testing"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -67,7 +68,7 @@ func TestSlopeAreaUniformFlow(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			g1 := saTrapezoid(t, tc.b, tc.z, 100, 5, tc.n)
 			g2 := saTrapezoid(t, tc.b, tc.z, 100-tc.f, 5, tc.n)
-			secs := []ReachSection{
+			secs := []Section{
 				{ID: "A", Geometry: g1, Distance: 0, Left: 100 + tc.y, Right: 100 + tc.y},
 				{ID: "B", Geometry: g2, Distance: tc.l, Left: 100 - tc.f + tc.y, Right: math.NaN()},
 			}
@@ -114,7 +115,7 @@ func TestSlopeAreaRectangularExpandingContracting(t *testing.T) {
 		{"strong expansion", 6, 20, 1.5, 1.6, 0.04, 100, 0.15, true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			secs := []ReachSection{
+			secs := []Section{
 				{ID: "up", Geometry: saTrapezoid(t, tc.b1, 0, 50, 6, tc.n), Distance: 1000, Left: 50 + tc.y1, Right: 50 + tc.y1},
 				{ID: "down", Geometry: saTrapezoid(t, tc.b2, 0, 50+tc.y1-tc.fall-tc.y2, 6, tc.n), Distance: 1000 + tc.l,
 					Left: 50 + tc.y1 - tc.fall, Right: 50 + tc.y1 - tc.fall},
@@ -167,9 +168,9 @@ func TestSlopeAreaThreeSections(t *testing.T) {
 		{9, 1.0, 199.7, 202.35, 0.035, 180},
 		{18, 2.0, 199.9, 202.05, 0.045, 390},
 	}
-	var secs []ReachSection
+	var secs []Section
 	for i, s := range reach {
-		secs = append(secs, ReachSection{ID: string(rune('A' + i)), Geometry: saTrapezoid(t, s.b, s.z, s.bed, 6, s.n),
+		secs = append(secs, Section{ID: string(rune('A' + i)), Geometry: saTrapezoid(t, s.b, s.z, s.bed, 6, s.n),
 			Distance: s.dist, Left: s.ws + 0.02, Right: s.ws - 0.02})
 	}
 	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
@@ -227,11 +228,11 @@ func TestSlopeAreaSectionMatchesHydraulics(t *testing.T) {
 		t.Fatal(err)
 	}
 	var st saSectionState
-	if err := saState(g, 3.6, nil, subdivide.Options{}, SI, &st); err != nil {
+	if err := saState(g, 3.6, nil, subdivide.Options{}, rating.SI, &st); err != nil {
 		t.Fatal(err)
 	}
 	w, _ := g.At(3.6, subdivide.Options{})
-	row, err := Hydraulics(w, g.Bottom(), 0.001, SI)
+	row, err := rating.Hydraulics(w, g.Bottom(), 0.001, rating.SI)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -255,7 +256,7 @@ func TestSlopeAreaSides(t *testing.T) {
 		{LeftSide, 102.0, 0},
 		{RightSide, 102.1, 0},
 	} {
-		secs := []ReachSection{
+		secs := []Section{
 			{ID: "A", Geometry: g1, Distance: 0, Left: 102.0, Right: 102.1},
 			{ID: "B", Geometry: g2, Distance: 150, Left: 101.8, Right: math.NaN()},
 		}
@@ -275,7 +276,7 @@ func TestSlopeAreaSides(t *testing.T) {
 func TestSlopeAreaChecks(t *testing.T) {
 	// Marks 0.3 m apart at A (tolerance 0.15 m), an expanding subreach, a
 	// short reach (L = 60 m against 75 × about 1.9 m).
-	secs := []ReachSection{
+	secs := []Section{
 		{ID: "A", Geometry: saTrapezoid(t, 8, 0, 10, 5, 0.035), Distance: 0, Left: 12.15, Right: 11.85},
 		{ID: "B", Geometry: saTrapezoid(t, 12, 0, 9.9, 5, 0.035), Distance: 60, Left: 11.9, Right: 11.9},
 	}
@@ -283,7 +284,7 @@ func TestSlopeAreaChecks(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	got := map[string]ReachCheck{}
+	got := map[string]Check{}
 	for _, c := range res.Checks {
 		got[c.Name] = c
 		if c.Source == "" || c.Relation == "" {
@@ -322,24 +323,24 @@ func TestSlopeAreaErrors(t *testing.T) {
 	nan := math.NaN()
 	for _, tc := range []struct {
 		name  string
-		secs  []ReachSection
+		secs  []Section
 		want  error
 		field string
 	}{
-		{"one section", []ReachSection{{ID: "A", Geometry: g, Left: 101, Right: nan}}, ErrTooFewSections, ""},
-		{"zero fall", []ReachSection{
+		{"one section", []Section{{ID: "A", Geometry: g, Left: 101, Right: nan}}, ErrTooFewSections, ""},
+		{"zero fall", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 101, Right: nan}}, ErrFall, ""},
-		{"negative fall", []ReachSection{
+		{"negative fall", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 101.2, Right: nan}}, ErrFall, ""},
-		{"distance not increasing", []ReachSection{
+		{"distance not increasing", []Section{
 			{ID: "A", Geometry: g, Distance: 100, Left: 101, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrDistances, "distance"},
-		{"dry section", []ReachSection{
+		{"dry section", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
 			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "water_surface"},
-		{"no mark", []ReachSection{
+		{"no mark", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: nan, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrNoMark, "water_surface"},
 	} {
@@ -348,12 +349,12 @@ func TestSlopeAreaErrors(t *testing.T) {
 			if !errors.Is(err, tc.want) {
 				t.Fatalf("err = %v, want %v", err, tc.want)
 			}
-			var se *ReachSectionError
+			var se *SectionError
 			if tc.field != "" && (!errors.As(err, &se) || se.Field != tc.field) {
-				t.Errorf("err = %#v, want a ReachSectionError on %s", err, tc.field)
+				t.Errorf("err = %#v, want a SectionError on %s", err, tc.field)
 			}
-			if _, err := ReachMonteCarlo(tc.secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10}); !errors.Is(err, tc.want) {
-				t.Errorf("ReachMonteCarlo err = %v, want %v", err, tc.want)
+			if _, err := MonteCarlo(tc.secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 10}); !errors.Is(err, tc.want) {
+				t.Errorf("MonteCarlo err = %v, want %v", err, tc.want)
 			}
 		})
 	}
@@ -363,7 +364,7 @@ func TestSlopeAreaErrors(t *testing.T) {
 // Q = K·√S (Chow 1959, eq. 6-9) and is labelled as weaker.
 func TestSlopeConveyance(t *testing.T) {
 	g := saTrapezoid(t, 6, 1.5, 10, 4, 0.04)
-	res, err := SlopeConveyance(ReachSection{ID: "X", Geometry: g, Left: 11.8, Right: 11.8}, 0.002, SlopeAreaOptions{})
+	res, err := SlopeConveyance(Section{ID: "X", Geometry: g, Left: 11.8, Right: 11.8}, 0.002, SlopeAreaOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -374,7 +375,7 @@ func TestSlopeConveyance(t *testing.T) {
 	if res.Method != MethodSlopeConveyance || len(res.Warnings) == 0 || len(res.Subreaches) != 0 {
 		t.Errorf("method %q warnings %q", res.Method, res.Warnings)
 	}
-	if _, err := SlopeConveyance(ReachSection{ID: "X", Geometry: g, Left: 11.8}, 0, SlopeAreaOptions{}); !errors.Is(err, ErrSlope) {
+	if _, err := SlopeConveyance(Section{ID: "X", Geometry: g, Left: 11.8}, 0, SlopeAreaOptions{}); !errors.Is(err, rating.ErrSlope) {
 		t.Errorf("zero slope: err = %v", err)
 	}
 }
@@ -394,11 +395,11 @@ func TestParseSide(t *testing.T) {
 // (Chow 1959, eq. 6-9) and the US defaults of the tolerances.
 func TestSlopeAreaUSUnits(t *testing.T) {
 	const b, y, n, f, l = 40.0, 6.0, 0.035, 0.8, 800.0
-	secs := []ReachSection{
+	secs := []Section{
 		{ID: "A", Geometry: saTrapezoid(t, b, 0, 300, 15, n), Distance: 0, Left: 300 + y, Right: 300 + y + 0.6},
 		{ID: "B", Geometry: saTrapezoid(t, b, 0, 300-f, 15, n), Distance: l, Left: 300 - f + y, Right: 300 - f + y + 0.6},
 	}
-	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: US, Side: LeftSide})
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: rating.US, Side: LeftSide})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -415,7 +416,7 @@ func TestSlopeAreaUSUnits(t *testing.T) {
 			t.Error("0.6 ft mark spread passes a 0.5 ft tolerance")
 		}
 	}
-	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{Units: US}, ReachMonteCarloOptions{Draws: 10})
+	u, err := MonteCarlo(secs, SlopeAreaOptions{Units: rating.US}, MonteCarloOptions{Draws: 10})
 	if err != nil || u.MarkSD != DefaultMarkSDUS {
 		t.Errorf("US mark SD %g, %v", u.MarkSD, err)
 	}

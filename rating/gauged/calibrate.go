@@ -1,4 +1,4 @@
-package rating
+package gauged
 
 import (
 	"errors"
@@ -7,53 +7,9 @@ import (
 
 	"gonum.org/v1/gonum/optimize"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
-
-// ScaledN is a geometry whose Manning's n values are multiplied by Factor:
-// every subsection's, or only the main channel's when ChannelOnly. A zero
-// Factor leaves n unchanged.
-type ScaledN struct {
-	subdivide.Geometry
-	// Factor multiplies n (dimensionless, > 0).
-	Factor float64
-	// ChannelOnly scales only subsections in the Channel region.
-	ChannelOnly bool
-}
-
-func (s ScaledN) scales(r subdivide.Region) bool {
-	return s.Factor > 0 && (!s.ChannelOnly || r == subdivide.Channel)
-}
-
-// At returns the wetted geometry with scaled n.
-func (s ScaledN) At(stage float64, opt subdivide.Options) (subdivide.Wetted, error) {
-	w, err := s.Geometry.At(stage, opt)
-	for i := range w.Subs {
-		if s.scales(w.Subs[i].Region) {
-			w.Subs[i].N *= s.Factor
-		}
-	}
-	return w, err
-}
-
-// Subsections returns the layout with scaled n.
-func (s ScaledN) Subsections() []subdivide.Subsection {
-	subs := s.Geometry.Subsections()
-	for i := range subs {
-		if s.scales(subs[i].Region) {
-			subs[i].N *= s.Factor
-		}
-	}
-	return subs
-}
-
-// Name returns the underlying geometry's name, if it has one.
-func (s ScaledN) Name() string {
-	if n, ok := s.Geometry.(interface{ Name() string }); ok {
-		return n.Name()
-	}
-	return ""
-}
 
 // NPoint is the roughness back-calculated from one gauging.
 type NPoint struct {
@@ -103,7 +59,7 @@ var ErrCalibrate = errors.New("no gauging can calibrate n")
 
 // Calibrate back-calculates n from gaugings on the hydraulic rating c (see
 // Calibration). Gaugings with zero discharge are left out.
-func Calibrate(gs []Gauging, c HydraulicCurve, channelOnly bool) (Calibration, error) {
+func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibration, error) {
 	cal := Calibration{ChannelOnly: channelOnly, Factor: math.NaN(), StandardErrorPercent: math.NaN()}
 	if channelOnly {
 		has := false
@@ -118,7 +74,7 @@ func Calibrate(gs []Gauging, c HydraulicCurve, channelOnly bool) (Calibration, e
 	}
 	type part struct{ qs, qo, qm, w float64 }
 	var parts []part
-	scaled := ScaledN{Factor: 1, ChannelOnly: channelOnly}
+	scaled := rating.ScaledN{Factor: 1, ChannelOnly: channelOnly}
 	var errs []error
 	var swl, sw float64
 	for _, g := range gs {
@@ -131,7 +87,7 @@ func Calibrate(gs []Gauging, c HydraulicCurve, channelOnly bool) (Calibration, e
 		pt.Rated = r.Discharge
 		var qs, qo, kmax float64
 		for i, s := range r.Subs {
-			if scaled.scales(s.Region) {
+			if scaled.Scales(s.Region) {
 				qs += s.Discharge
 				if s.Conveyance > kmax {
 					kmax, pt.Subsection = s.Conveyance, i

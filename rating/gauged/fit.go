@@ -1,10 +1,11 @@
-package rating
+package gauged
 
 import (
 	"errors"
 	"fmt"
 	"math"
 	"sort"
+	"wetline/rating"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
@@ -73,7 +74,7 @@ type FitOptions struct {
 	// (default "given").
 	ZeroFlowSource string
 	// Units is the unit system of stage and discharge (for messages).
-	Units Units
+	Units rating.Units
 	// noTest skips the F test for one more segment.
 	noTest bool
 }
@@ -96,8 +97,8 @@ type PowerSegment struct {
 	Exponent, ExponentSE float64
 }
 
-// GaugingResidual is a gauging's departure from a fitted or rated curve.
-type GaugingResidual struct {
+// Residual is a gauging's departure from a fitted or rated curve.
+type Residual struct {
 	Gauging
 	// Fitted is the curve's discharge at the gauging's stage.
 	Fitted float64
@@ -138,7 +139,7 @@ type GaugingResidual struct {
 // normalised to mean 1.
 type Fit struct {
 	// Units is the unit system of stages and discharges.
-	Units Units
+	Units rating.Units
 	// Segments are the fitted segments, lowest first.
 	Segments []PowerSegment
 	// ZeroFlow is the gauge height of zero flow e and ZeroFlowSE its
@@ -163,7 +164,7 @@ type Fit struct {
 	// LowStage and HighStage are the lowest and highest gauging fitted.
 	LowStage, HighStage float64
 	// Residuals holds every gauging's departure, in input order.
-	Residuals []GaugingResidual
+	Residuals []Residual
 	// PoorFit reports that one more segment fits significantly better
 	// (F test at PoorFitLevel); MoreSegmentsF and MoreSegmentsP are that
 	// test's statistic and p-value (NaN when not made).
@@ -679,7 +680,7 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 		}
 	}
 	// Residuals in input order.
-	f.Residuals = make([]GaugingResidual, len(gs))
+	f.Residuals = make([]Residual, len(gs))
 	wi := 0
 	var wsum float64
 	for _, g := range gs {
@@ -701,8 +702,8 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 
 // residualOf measures a gauging against a curve's discharge q at its stage;
 // inverse returns the curve's stage for a discharge (NaN when none).
-func residualOf(g Gauging, q float64, inverse func(float64) float64) GaugingResidual {
-	r := GaugingResidual{Gauging: g, Fitted: q, DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
+func residualOf(g Gauging, q float64, inverse func(float64) float64) Residual {
+	r := Residual{Gauging: g, Fitted: q, DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
 	if q > 0 {
 		r.DeparturePercent = 100 * (g.Discharge - q) / q
 		r.OutsideBand = g.Quality.Outside(r.DeparturePercent)

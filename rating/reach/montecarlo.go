@@ -1,4 +1,4 @@
-package rating
+package reach
 
 import (
 	"fmt"
@@ -6,8 +6,8 @@ import (
 	"math/rand/v2"
 	"runtime"
 	"sort"
-	"strings"
 	"sync"
+	"wetline/rating"
 
 	"gonum.org/v1/gonum/stat"
 )
@@ -15,10 +15,10 @@ import (
 // Defaults of the slope-area uncertainty analysis. They are stated
 // assumptions of this project, to be reviewed for each site.
 const (
-	// DefaultReachDraws is the number of Monte Carlo draws.
-	DefaultReachDraws = 5000
-	// MaxReachDraws bounds the number of draws (each keeps one discharge).
-	MaxReachDraws = 10_000_000
+	// DefaultDraws is the number of Monte Carlo draws.
+	DefaultDraws = 5000
+	// MaxDraws bounds the number of draws (each keeps one discharge).
+	MaxDraws = 10_000_000
 	// DefaultNCV is the coefficient of variation of each subsection's
 	// Manning's n: 0.15 (project default; an assumption about how well n
 	// is judged in the field, to be reviewed).
@@ -39,35 +39,10 @@ const (
 	SensitivityHStep = 0.001
 )
 
-// markQualityFeet are the elevation bands of high-water-mark quality
-// ratings in feet (Koenig and others, 2016, USGS Techniques and Methods
-// 3-A24: excellent ±0.05 ft, good ±0.10, fair ±0.20, poor ±0.40; from memory).
-var markQualityFeet = map[string]float64{
-	"excellent": 0.05, "good": 0.10, "fair": 0.20, "poor": 0.40,
-}
-
-// MarkQualities lists the quality words a reach table may give a mark.
-var MarkQualities = []string{"excellent", "good", "fair", "poor"}
-
-// QualitySD returns the standard deviation of one mark of the given quality
-// rating (excellent, good, fair, poor; any case), taking the rating's
-// elevation band as one standard deviation, in the length unit of u. ok is
-// false for an unknown word.
-func QualitySD(quality string, u Units) (sd float64, ok bool) {
-	ft, ok := markQualityFeet[strings.ToLower(strings.TrimSpace(quality))]
-	if !ok {
-		return 0, false
-	}
-	if u == US {
-		return ft, true
-	}
-	return ft / FeetPerMetre, true
-}
-
-// ReachMonteCarloOptions configure the uncertainty analysis. The zero value is
+// MonteCarloOptions configure the uncertainty analysis. The zero value is
 // the default of every field.
-type ReachMonteCarloOptions struct {
-	// Draws is the number of draws (default DefaultReachDraws).
+type MonteCarloOptions struct {
+	// Draws is the number of draws (default DefaultDraws).
 	Draws int
 	// Seed seeds the random sources; equal seeds give equal results.
 	Seed uint64
@@ -78,16 +53,16 @@ type ReachMonteCarloOptions struct {
 	// MarkSD is the standard deviation of one mark's elevation (length
 	// unit), drawn normal about the mark; zero means DefaultMarkSDSI or
 	// DefaultMarkSDUS, a negative value no spread. A section's own
-	// ReachSection.MarkSD replaces it for that section's marks.
+	// Section.MarkSD replaces it for that section's marks.
 	MarkSD float64
 	// Workers is the number of goroutines (default GOMAXPROCS). Results do
 	// not depend on it.
 	Workers int
 }
 
-// ReachUncertainty is the spread of a slope-area discharge under uncertain n
+// Uncertainty is the spread of a slope-area discharge under uncertain n
 // and water surfaces, and its sensitivities.
-type ReachUncertainty struct {
+type Uncertainty struct {
 	// Draws is the number of draws made; Failed those without a solution
 	// (a dry section, no fall, no real discharge), left out of the
 	// percentiles.
@@ -117,7 +92,7 @@ type ReachUncertainty struct {
 
 // saModel is a reach prepared for repeated evaluation.
 type saModel struct {
-	secs  []ReachSection
+	secs  []Section
 	ws    []float64 // water surfaces from the marks
 	wsSD  []float64 // standard deviation of each water surface
 	nsubs []int     // subsections of each section
@@ -153,7 +128,7 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 	return saReachQ(m.secs, s.ws, s.sts, m.opt.Units)
 }
 
-// ReachMonteCarlo estimates the uncertainty of the slope-area discharge of a
+// MonteCarlo estimates the uncertainty of the slope-area discharge of a
 // reach: each draw takes every subsection's n from a log-normal
 // distribution with median the surveyed n and coefficient of variation
 // NCV (σ = √ln(1+CV²)), and every section's water surface from a normal
@@ -164,24 +139,24 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 //
 // The reach must solve (SolveSlopeArea returns no error); otherwise that
 // error is returned.
-func ReachMonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc ReachMonteCarloOptions) (ReachUncertainty, error) {
+func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Uncertainty, error) {
 	var res SlopeArea
 	if len(secs) < 2 {
-		return ReachUncertainty{}, ErrTooFewSections
+		return Uncertainty{}, ErrTooFewSections
 	}
 	ws, used, sts, err := saPrepare(secs, opt, &res)
 	if err != nil {
-		return ReachUncertainty{}, err
+		return Uncertainty{}, err
 	}
 	if _, err := saReachQ(secs, ws, sts, opt.Units); err != nil {
-		return ReachUncertainty{}, err
+		return Uncertainty{}, err
 	}
-	u := ReachUncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
+	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
 	if u.Draws <= 0 {
-		u.Draws = DefaultReachDraws
+		u.Draws = DefaultDraws
 	}
-	if u.Draws > MaxReachDraws {
-		return ReachUncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxReachDraws)
+	if u.Draws > MaxDraws {
+		return Uncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxDraws)
 	}
 	switch {
 	case u.NCV == 0:
@@ -190,7 +165,7 @@ func ReachMonteCarlo(secs []ReachSection, opt SlopeAreaOptions, mc ReachMonteCar
 		u.NCV = 0
 	}
 	switch {
-	case u.MarkSD == 0 && opt.Units == US:
+	case u.MarkSD == 0 && opt.Units == rating.US:
 		u.MarkSD = DefaultMarkSDUS
 	case u.MarkSD == 0:
 		u.MarkSD = DefaultMarkSDSI
@@ -308,7 +283,7 @@ func (m *saModel) sensitivities(base []saSectionState) (dqdn float64, dqdh []flo
 }
 
 // String summarises the band, e.g. "p05 410, p50 452, p95 497 (5000 draws)".
-func (u ReachUncertainty) String() string {
+func (u Uncertainty) String() string {
 	return fmt.Sprintf("p05 %s, p50 %s, p95 %s (%d draws, %d failed)",
 		saSig(u.P05), saSig(u.P50), saSig(u.P95), u.Draws, u.Failed)
 }

@@ -1,10 +1,10 @@
-package rating_test
+package reach_test
 
 import (
 	"fmt"
 	"math"
 
-	"wetline/rating"
+	"wetline/rating/reach"
 	"wetline/subdivide"
 )
 
@@ -28,11 +28,11 @@ func saRectangle(b, bed, n float64) subdivide.Geometry {
 // The discharge agrees with the two-section formula evaluated by hand for
 // rectangles (α = 1): Q² = F / (L/(K1K2) − 0.5·(1/A1² − 1/A2²)/(2g)).
 func ExampleSolveSlopeArea() {
-	secs := []rating.ReachSection{
+	secs := []reach.Section{
 		{ID: "upper", Geometry: saRectangle(10, 100, 0.03), Distance: 0, Left: 102.0, Right: 102.04},
 		{ID: "lower", Geometry: saRectangle(14, 99.9, 0.03), Distance: 150, Left: 101.8, Right: math.NaN()},
 	}
-	res, err := rating.SolveSlopeArea(secs, rating.SlopeAreaOptions{})
+	res, err := reach.SolveSlopeArea(secs, reach.SlopeAreaOptions{})
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -1,4 +1,4 @@
-package rating_test
+package gauged_test
 
 import (
 	"errors"
@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // The lookup table: the fit between the gaugings, the fit down to e below
@@ -14,12 +15,12 @@ import (
 func TestLookupTable(t *testing.T) {
 	truth := compound(t, 0.030, 0.060)
 	gs := sample(t, truth, linspace(1.0, 2.4, 12)) // in the channel, below the banks at 2.5
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
 	if err != nil {
 		t.Fatal(err)
 	}
 	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-	tab, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, Step: 0.1})
+	tab, err := gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, Step: 0.1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -30,34 +31,34 @@ func TestLookupTable(t *testing.T) {
 		t.Errorf("scale factor %g at %g (%q)", tab.ScaleFactor, tab.ScaleStage, tab.ScaleNote)
 	}
 	first, last := tab.Rows[0], tab.Rows[len(tab.Rows)-1]
-	if first.Stage != 0.5 || first.Discharge != 0 || first.Basis != rating.BelowGaugings || !first.Extrapolated() {
+	if first.Stage != 0.5 || first.Discharge != 0 || first.Basis != gauged.BelowGaugings || !first.Extrapolated() {
 		t.Errorf("first row %+v", first)
 	}
-	if want := c.Top(); last.Stage != want || last.Basis != rating.HydraulicAbove {
+	if want := c.Top(); last.Stage != want || last.Basis != gauged.HydraulicAbove {
 		t.Errorf("last row %+v, want stage %g (the section's lower end)", last, want)
 	}
 	const tol = 1e-12 // round-off
 	for _, r := range tab.Rows {
 		switch {
-		case r.Stage < 1.0 && r.Basis != rating.BelowGaugings,
-			r.Stage >= 1.0 && r.Stage <= 2.4 && (r.Basis != rating.WithinGaugings || r.Extrapolated()),
-			r.Stage > 2.4 && r.Basis != rating.HydraulicAbove:
+		case r.Stage < 1.0 && r.Basis != gauged.BelowGaugings,
+			r.Stage >= 1.0 && r.Stage <= 2.4 && (r.Basis != gauged.WithinGaugings || r.Extrapolated()),
+			r.Stage > 2.4 && r.Basis != gauged.HydraulicAbove:
 			t.Errorf("stage %g: basis %v", r.Stage, r.Basis)
 		}
-		if r.Basis == rating.HydraulicAbove && relErr(r.Discharge, tab.ScaleFactor*r.Hydraulic) > tol {
+		if r.Basis == gauged.HydraulicAbove && relErr(r.Discharge, tab.ScaleFactor*r.Hydraulic) > tol {
 			t.Errorf("stage %g: %g is not the factor times %g", r.Stage, r.Discharge, r.Hydraulic)
 		}
 		if r.Stage == 2.4 && relErr(r.Discharge, tab.ScaleFactor*r.Hydraulic) > tol {
 			t.Errorf("the two curves do not meet at the highest gauging: %g and %g", r.Discharge, tab.ScaleFactor*r.Hydraulic)
 		}
 	}
-	if _, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, To: c.Top() + 0.1}); !errors.Is(err, rating.ErrBeyondSection) {
+	if _, err := gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, To: c.Top() + 0.1}); !errors.Is(err, gauged.ErrBeyondSection) {
 		t.Errorf("past the section's end: err = %v", err)
 	}
-	if _, err := rating.LookupTable(f, rating.TableOptions{To: 3}); !errors.Is(err, rating.ErrBeyondSection) {
+	if _, err := gauged.LookupTable(f, gauged.TableOptions{To: 3}); !errors.Is(err, gauged.ErrBeyondSection) {
 		t.Errorf("above the gaugings without a section: err = %v", err)
 	}
-	plain, err := rating.LookupTable(f, rating.TableOptions{})
+	plain, err := gauged.LookupTable(f, gauged.TableOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -72,12 +73,12 @@ func TestLookupTable(t *testing.T) {
 func TestFitTableAt(t *testing.T) {
 	truth := compound(t, 0.030, 0.060)
 	gs := sample(t, truth, linspace(1.0, 2.4, 12))
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
 	if err != nil {
 		t.Fatal(err)
 	}
 	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-	tab, err := rating.LookupTable(f, rating.TableOptions{Hydraulic: &c, Step: 0.1})
+	tab, err := gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, Step: 0.1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -93,14 +94,14 @@ func TestFitTableAt(t *testing.T) {
 	}
 	for _, tc := range []struct {
 		h     float64
-		basis rating.Basis
-	}{{0.73, rating.BelowGaugings}, {1.57, rating.WithinGaugings}, {2.43, rating.HydraulicAbove}} {
+		basis gauged.Basis
+	}{{0.73, gauged.BelowGaugings}, {1.57, gauged.WithinGaugings}, {2.43, gauged.HydraulicAbove}} {
 		got, err := tab.At(f, &c, tc.h)
 		if err != nil {
 			t.Fatal(err)
 		}
 		want := f.Discharge(tc.h)
-		if tc.basis == rating.HydraulicAbove {
+		if tc.basis == gauged.HydraulicAbove {
 			q, _ := c.Discharge(tc.h)
 			want = tab.ScaleFactor * q
 		}
@@ -109,7 +110,7 @@ func TestFitTableAt(t *testing.T) {
 		}
 	}
 	for _, h := range []float64{0.49, c.Top() + 0.01, math.NaN()} {
-		if _, err := tab.At(f, &c, h); !errors.Is(err, rating.ErrBeyondSection) {
+		if _, err := tab.At(f, &c, h); !errors.Is(err, gauged.ErrBeyondSection) {
 			t.Errorf("stage %g outside the table: err = %v", h, err)
 		}
 	}

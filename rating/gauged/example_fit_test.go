@@ -1,19 +1,20 @@
-package rating_test
+package gauged_test
 
 import (
 	"fmt"
 	"math"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // A rating fitted to gaugings that follow Q = 4·(h − 0.2)^1.8 exactly.
 func ExampleFitPowerLaw() {
-	var gs []rating.Gauging
+	var gs []gauged.Gauging
 	for _, h := range []float64{0.5, 0.8, 1.1, 1.5, 2.0, 2.6} {
-		gs = append(gs, rating.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
 	}
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -38,16 +39,16 @@ func ExampleQuality_Outside() {
 // gauging the fit (extrapolated), within the gaugings the fit: here
 // 4·(h − 0.2)^1.8, the law the gaugings follow (closed form).
 func ExampleFitTable_At() {
-	var gs []rating.Gauging
+	var gs []gauged.Gauging
 	for _, h := range []float64{0.5, 0.8, 1.1, 1.5, 2.0, 2.6} {
-		gs = append(gs, rating.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: 4 * math.Pow(h-0.2, 1.8), Quality: rating.Good})
 	}
-	f, err := rating.FitPowerLaw(gs, rating.FitOptions{})
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	t, err := rating.LookupTable(f, rating.TableOptions{Step: 0.5})
+	t, err := gauged.LookupTable(f, gauged.TableOptions{Step: 0.5})
 	if err != nil {
 		fmt.Println(err)
 		return

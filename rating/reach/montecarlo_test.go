@@ -1,10 +1,11 @@
-package rating
+package reach
 
 import (
 	"math"
 	"slices"
 	"testing"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -42,8 +43,8 @@ func saCompound(t testing.TB, bed, widen float64) subdivide.Geometry {
 
 // saThreeSections is a three-section compound reach, contracting then
 // expanding, with both marks at every section.
-func saThreeSections(t testing.TB) []ReachSection {
-	return []ReachSection{
+func saThreeSections(t testing.TB) []Section {
+	return []Section{
 		{ID: "XS1", Geometry: saCompound(t, 100.0, 1.1), Distance: 0, Left: 103.42, Right: 103.36},
 		{ID: "XS2", Geometry: saCompound(t, 99.85, 0.9), Distance: 160, Left: 103.22, Right: 103.18},
 		{ID: "XS3", Geometry: saCompound(t, 99.7, 1.0), Distance: 330, Left: 102.95, Right: 102.99},
@@ -52,18 +53,18 @@ func saThreeSections(t testing.TB) []ReachSection {
 
 func TestMonteCarloReproducible(t *testing.T) {
 	secs := saThreeSections(t)
-	a, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
+	a, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 7, Workers: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 7, Workers: 3})
+	b, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 7, Workers: 3})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !slices.Equal(a.Samples, b.Samples) || a.P50 != b.P50 {
 		t.Error("same seed, different worker counts: different draws")
 	}
-	c, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 1200, Seed: 8, Workers: 1})
+	c, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 1200, Seed: 8, Workers: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -82,7 +83,7 @@ func TestMonteCarloZeroSpread(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 300, Seed: 1, NCV: -1, MarkSD: -1})
+	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 300, Seed: 1, NCV: -1, MarkSD: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +110,7 @@ func TestMonteCarloMedian(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1})
+	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -123,7 +124,7 @@ func TestMonteCarloMedian(t *testing.T) {
 		t.Errorf("%d of %d draws failed", u.Failed, u.Draws)
 	}
 	// A larger n spread widens the band.
-	w, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, NCV: 0.3})
+	w, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1, NCV: 0.3})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -138,7 +139,7 @@ func TestMonteCarloMedian(t *testing.T) {
 // one lowers it.
 func TestMonteCarloSensitivities(t *testing.T) {
 	const n = 0.04
-	secs := []ReachSection{
+	secs := []Section{
 		{ID: "A", Geometry: saTrapezoid(t, 10, 2, 100, 5, n), Distance: 0, Left: 102, Right: math.NaN()},
 		{ID: "B", Geometry: saTrapezoid(t, 10, 2, 99.7, 5, n), Distance: 250, Left: 101.7, Right: math.NaN()},
 	}
@@ -146,7 +147,7 @@ func TestMonteCarloSensitivities(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	u, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 10})
+	u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 10})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -159,25 +160,12 @@ func TestMonteCarloSensitivities(t *testing.T) {
 	}
 }
 
-func TestQualitySD(t *testing.T) {
-	// Koenig and others 2016 (USGS TM 3-A24) bands, from memory: good ±0.10 ft.
-	if sd, ok := QualitySD("Good", US); !ok || sd != 0.10 {
-		t.Errorf("good = %g %v", sd, ok)
-	}
-	if sd, ok := QualitySD("poor", SI); !ok || saRelErr(sd, 0.40*0.3048) > saClosedFormTol {
-		t.Errorf("poor SI = %g %v", sd, ok)
-	}
-	if _, ok := QualitySD("splendid", SI); ok {
-		t.Error("unknown quality accepted")
-	}
-}
-
 // BenchmarkMonteCarlo5000 measures 5 000 draws for a three-section
 // compound reach of 25-point sections on one goroutine.
 func BenchmarkMonteCarlo5000(b *testing.B) {
 	secs := saThreeSections(b)
 	for b.Loop() {
-		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
+		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1, Workers: 1}); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -188,16 +176,16 @@ func BenchmarkMonteCarlo5000(b *testing.B) {
 // variance of their mean.
 func TestMonteCarloMarkSD(t *testing.T) {
 	secs := saThreeSections(t)
-	base, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	base, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if want := DefaultMarkSDSI / math.Sqrt2; saRelErr(base.WaterSurfaceSD[0], want) > saClosedFormTol {
 		t.Errorf("water-surface SD %g, want %g", base.WaterSurfaceSD[0], want)
 	}
-	poor, _ := QualitySD("poor", SI)
+	poor, _ := rating.Poor.MarkSD(rating.SI)
 	secs[0].MarkSD = poor
-	wide, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
+	wide, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 2000, Seed: 3, NCV: -1})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -210,7 +198,7 @@ func TestMonteCarloMarkSD(t *testing.T) {
 func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
 	secs := saThreeSections(b)
 	for b.Loop() {
-		if _, err := ReachMonteCarlo(secs, SlopeAreaOptions{}, ReachMonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
+		if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 5000, Seed: 1}); err != nil {
 			b.Fatal(err)
 		}
 	}
