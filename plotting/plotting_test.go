@@ -368,10 +368,10 @@ func BenchmarkRating(b *testing.B) {
 }
 
 // referenceDir is the copy of the public-domain USGS reference data kept
-// with the rating tests (rating/testdata/reference, from ../shared/reference).
+// at the top of the module (testdata/reference, copied from the agency files with their source headers).
 func referenceDir(t *testing.T) string {
 	t.Helper()
-	dir := filepath.Join("..", "rating", "testdata", "reference")
+	dir := filepath.Join("..", "testdata", "reference")
 	if _, err := os.Stat(filepath.Join(dir, "rating-01594440.csv")); err != nil {
 		t.Fatalf("reference data: %v", err)
 	}

@@ -58,7 +58,7 @@ func (q Quality) String() string {
 // within 5 %, fair within 8 %, poor over 8 % of the true discharge
 // (Turnipseed & Sauer, 2010, Discharge measurements at gaging stations,
 // USGS Techniques and Methods 3-A8; the same bands head the public
-// measurement lists of the agency, as in rating/gauged/testdata/reference).
+// measurement lists of the agency, as in testdata/reference).
 const (
 	ExcellentBandPercent = 2.0
 	GoodBandPercent      = 5.0

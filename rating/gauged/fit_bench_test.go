@@ -10,7 +10,7 @@ import (
 
 // Fitting the 142 Patuxent gaugings (testdata/reference) with e fitted.
 func BenchmarkFitPatuxent(b *testing.B) {
-	gs, err := survey.ReadGaugings("testdata/reference/gaugings-01594440.csv", "")
+	gs, err := survey.ReadGaugings("../../testdata/reference/gaugings-01594440.csv", "")
 	if err != nil {
 		b.Fatal(err)
 	}

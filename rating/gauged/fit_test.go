@@ -210,7 +210,7 @@ func TestFitNoiseStandardErrorAndBand(t *testing.T) {
 // 2.0 ft). One power law with e = 2.0 reproduces all nine rows to the
 // published rounding of 0.01 ft³/s.
 func TestFitHydeExcerpt(t *testing.T) {
-	tab, err := survey.ReadTable("testdata/reference/rating-01541303-excerpt.csv", "")
+	tab, err := survey.ReadTable("../../testdata/reference/rating-01541303-excerpt.csv", "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -241,7 +241,7 @@ func TestFitHydeExcerpt(t *testing.T) {
 // range, stay within 10 % of it or hold it inside the 95 % band (the measurements depart from that rating by
 // −25 % to +3 %, reference README).
 func TestFitPatuxent(t *testing.T) {
-	gs, err := survey.ReadGaugings("testdata/reference/gaugings-01594440.csv", "")
+	gs, err := survey.ReadGaugings("../../testdata/reference/gaugings-01594440.csv", "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -263,7 +263,7 @@ func TestFitPatuxent(t *testing.T) {
 	if math.Abs(two.ZeroFlow-2.0) > tq*two.ZeroFlowSE {
 		t.Errorf("e = %.3f ± %.3f does not hold the published 2.0 ft", two.ZeroFlow, two.ZeroFlowSE)
 	}
-	tab, err := survey.ReadTable("testdata/reference/rating-01594440.csv", "")
+	tab, err := survey.ReadTable("../../testdata/reference/rating-01594440.csv", "")
 	if err != nil {
 		t.Fatal(err)
 	}
