@@ -2,6 +2,7 @@ package survey
 
 import (
 	"bufio"
+	"encoding/csv"
 	"io"
 	"strconv"
 	"strings"
@@ -26,7 +27,8 @@ func WriteSectionCSV(w io.Writer, s subdivide.Section, comments []string) error 
 		cols = append(cols, ColN)
 	}
 	cols = append(cols, ColMark)
-	writeRecord(bw, cols)
+	cw := csv.NewWriter(bw)
+	cw.Write(cols)
 	exact := func(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
 	leftDone, rightDone := false, false
 	for i, p := range s.Points {
@@ -45,7 +47,11 @@ func WriteSectionCSV(w io.Writer, s subdivide.Section, comments []string) error 
 		case s.HasBanks && !rightDone && p.Station == s.RightBank:
 			mark, rightDone = MarkBank, true
 		}
-		writeRecord(bw, append(rec, mark))
+		cw.Write(append(rec, mark))
+	}
+	cw.Flush()
+	if err := cw.Error(); err != nil {
+		return err
 	}
 	return bw.Flush()
 }

@@ -6,9 +6,8 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/xuri/excelize/v2"
-
 	"wetline/rating"
+	"wetline/survey/workbook"
 )
 
 // TemplateOptions shape a blank field workbook. The zero value gives
@@ -75,13 +74,6 @@ const (
 	excelSerialMax   = 2958465
 )
 
-// templateColumn is a column of a field sheet with its validation rule.
-type templateColumn struct {
-	Column
-	check func(dv *excelize.DataValidation) error // nil: no rule
-	help  string                                  // input prompt
-}
-
 // WriteTemplate writes a blank field workbook to w: cross-section sheets
 // XS-1 … XS-n (station, elevation, n, mark, note), a reach sheet (section,
 // survey, distance, ws_left, ws_right, quality, note), a gaugings sheet
@@ -103,39 +95,34 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if opt.Rows < 1 || opt.Rows > MaxTemplateRows {
 		return fmt.Errorf("template: %d rows: want 1 to %d", opt.Rows, MaxTemplateRows)
 	}
-	b := NewBook()
+	b := workbook.NewBook()
 	defer b.Close()
 	b.Title = "wetline field workbook"
+	b.Footer = rating.Caution
 	names := sectionSheetNames(opt)
 	for i, name := range names {
 		var data [][]any
 		if i < len(opt.Surveys) {
 			data = surveyRows(opt.Surveys[i])
 		}
-		if err := fieldSheet(b, name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
+		if err := b.InputSheet(name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
 			return err
 		}
 	}
-	if err := fieldSheet(b, FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
+	if err := b.InputSheet(FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	if err := fieldSheet(b, FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows, nil); err != nil {
+	if err := b.InputSheet(FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
 	if err := instructionSheet(b, opt, names); err != nil {
 		return err
 	}
-	f := b.File()
-	idx, err := f.GetSheetIndex(FieldSheetInstructions)
-	if err != nil {
-		return err
-	}
-	f.SetActiveSheet(idx)
-	if err := f.SetDocProps(&excelize.DocProperties{
+	if err := b.Finish(workbook.Properties{
 		Title:       "wetline field workbook",
 		Subject:     "cross-section survey, high-water marks and gaugings",
-		Description: Caution,
-	}); err != nil {
+		Description: rating.Caution,
+	}, FieldSheetInstructions); err != nil {
 		return err
 	}
 	return b.Write(w)
@@ -211,180 +198,62 @@ func surveyRows(sv Survey) [][]any {
 	return rows
 }
 
-func decimalRule(lo, hi float64, style excelize.DataValidationErrorStyle, msg string) func(*excelize.DataValidation) error {
-	return func(dv *excelize.DataValidation) error {
-		if err := dv.SetRange(plainNumber(lo), plainNumber(hi), excelize.DataValidationTypeDecimal, excelize.DataValidationOperatorBetween); err != nil {
-			return err
-		}
-		dv.SetError(style, "check the number", msg)
-		return nil
-	}
+// decimalRule accepts numbers from lo to hi, refusing others when strict.
+func decimalRule(lo, hi float64, strict bool, msg string) *workbook.Rule {
+	return &workbook.Rule{Kind: workbook.Decimal, Lo: lo, Hi: hi, Strict: strict, Title: "check the number", Message: msg}
 }
 
-// plainNumber writes v as a formula constant without an exponent.
+// plainNumber writes v without an exponent.
 func plainNumber(v float64) string { return strconv.FormatFloat(v, 'f', -1, 64) }
 
-func listRule(items []string, strict bool, msg string) func(*excelize.DataValidation) error {
-	return func(dv *excelize.DataValidation) error {
-		if err := dv.SetDropList(items); err != nil {
-			return err
-		}
-		if strict {
-			dv.SetError(excelize.DataValidationErrorStyleStop, "choose from the list", msg)
-		}
-		// Not strict: the list only suggests; any text is accepted.
-		return nil
-	}
+// listRule offers items; a strict list refuses other text.
+func listRule(items []string, strict bool, msg string) *workbook.Rule {
+	return &workbook.Rule{Kind: workbook.List, Items: items, Strict: strict, Title: "choose from the list", Message: msg}
 }
 
-func sectionColumns(u rating.Units) []templateColumn {
+func sectionColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-templateCoordMax), plainNumber(templateCoordMax))
-	return []templateColumn{
-		{Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
-			"distance from the left pin, looking downstream; never decreasing"},
-		{Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
-			"ground elevation above the gauge datum"},
-		{Column{Name: ColN, Format: "0.000", Width: 9},
-			decimalRule(templateNMin, templateNMax, excelize.DataValidationErrorStyleWarning,
-				fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)),
-			"Manning's n from this point to the next; blank repeats the value above"},
-		{Column{Name: ColMark, Format: FormatText, Width: 16},
-			listRule(SuggestedMarks, false, ""),
-			"bank marks a main-channel limit (exactly two per section); any other label is kept"},
-		{Column{Name: ColNote, Format: FormatText, Width: 36}, nil, ""},
+	return []workbook.InputColumn{
+		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
+		{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "ground elevation above the gauge datum"},
+		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
+			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
+		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks, false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
+		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
 
-func reachColumns(u rating.Units) []templateColumn {
+func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
-	return []templateColumn{
-		{Column{Name: FieldReachColumns[0], Format: FormatText, Width: 12}, nil, "section id, e.g. XS-1"},
-		{Column{Name: FieldReachColumns[1], Format: FormatText, Width: 16}, nil, "sheet (or file) holding the section's survey"},
-		{Column{Name: FieldReachColumns[2], Unit: L, Format: "0.0", Width: 14},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
-			"distance downstream from the upstream-most section, along the channel"},
-		{Column{Name: FieldReachColumns[3], Unit: L, Format: "0.000", Width: 14},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
-			"water-surface elevation from the high-water marks on the left bank"},
-		{Column{Name: FieldReachColumns[4], Unit: L, Format: "0.000", Width: 14},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop, coord),
-			"water-surface elevation from the high-water marks on the right bank"},
-		{Column{Name: FieldReachColumns[5], Format: FormatText, Width: 12},
-			listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")),
-			"how well the marks define the water surface"},
-		{Column{Name: FieldReachColumns[6], Format: FormatText, Width: 36}, nil, ""},
+	return []workbook.InputColumn{
+		{Column: workbook.Column{Name: FieldReachColumns[0], Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
+		{Column: workbook.Column{Name: FieldReachColumns[1], Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
+		{Column: workbook.Column{Name: FieldReachColumns[2], Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
+		{Column: workbook.Column{Name: FieldReachColumns[3], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
+		{Column: workbook.Column{Name: FieldReachColumns[4], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
+		{Column: workbook.Column{Name: FieldReachColumns[5], Format: workbook.FormatText, Width: 12}, Rule: listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")), Help: "how well the marks define the water surface"},
+		{Column: workbook.Column{Name: FieldReachColumns[6], Format: workbook.FormatText, Width: 36}},
 	}
 }
 
-func gaugingColumns(u rating.Units) []templateColumn {
+func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	L, Q := u.Length(), u.Discharge()
-	return []templateColumn{
-		{Column{Name: FieldGaugingColumns[0], Format: FormatDateTime, Width: 18},
-			func(dv *excelize.DataValidation) error {
-				if err := dv.SetRange(1, excelSerialMax, excelize.DataValidationTypeDate, excelize.DataValidationOperatorBetween); err != nil {
-					return err
-				}
-				dv.SetError(excelize.DataValidationErrorStyleWarning, "check the date",
-					"a date and time such as 2026-03-14 09:30 (keep it if it is one)")
-				return nil
-			},
-			"date and time of the mid-point of the measurement"},
-		{Column{Name: FieldGaugingColumns[1], Unit: L, Format: "0.000", Width: 12},
-			decimalRule(-templateCoordMax, templateCoordMax, excelize.DataValidationErrorStyleStop,
-				fmt.Sprintf("a gauge height in %s, with a decimal point", L)),
-			"mean gauge height during the measurement"},
-		{Column{Name: FieldGaugingColumns[2], Unit: Q, Format: "0.000", Width: 17},
-			decimalRule(0, 1e8, excelize.DataValidationErrorStyleStop,
-				fmt.Sprintf("a discharge in %s, zero or more", Q)),
-			"measured discharge"},
-		{Column{Name: FieldGaugingColumns[3], Format: FormatText, Width: 12},
-			listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")),
-			"measurement grade"},
-		{Column{Name: FieldGaugingColumns[4], Format: FormatText, Width: 36}, nil, ""},
+	return []workbook.InputColumn{
+		{Column: workbook.Column{Name: FieldGaugingColumns[0], Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
+			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
+		{Column: workbook.Column{Name: FieldGaugingColumns[1], Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
+			fmt.Sprintf("a gauge height in %s, with a decimal point", L)), Help: "mean gauge height during the measurement"},
+		{Column: workbook.Column{Name: FieldGaugingColumns[2], Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
+			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
+		{Column: workbook.Column{Name: FieldGaugingColumns[3], Format: workbook.FormatText, Width: 12}, Rule: listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")), Help: "measurement grade"},
+		{Column: workbook.Column{Name: FieldGaugingColumns[4], Format: workbook.FormatText, Width: 36}},
 	}
-}
-
-// InputStyle returns the id of the style of cells a crew fills in: a
-// number format code ("" for General) on the input colour.
-func (b *Book) InputStyle(format string) (int, error) {
-	return b.style("input:"+format, func() *excelize.Style {
-		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourInputFill}}}
-		if format != "" {
-			f := format
-			st.CustomNumFmt = &f
-		}
-		return st
-	})
-}
-
-// fieldSheet writes a sheet with a styled, frozen header in row 1,
-// input-coloured columns, a validation rule per column on rows
-// 2 … rows+1, and data (if any) from row 2.
-func fieldSheet(b *Book, name string, cols []templateColumn, rows int, data [][]any) error {
-	if err := b.NewSheet(name); err != nil {
-		return err
-	}
-	f := b.File()
-	hs, err := b.HeaderStyle()
-	if err != nil {
-		return err
-	}
-	for i, c := range cols {
-		col, err := excelize.ColumnNumberToName(i + 1)
-		if err != nil {
-			return err
-		}
-		is, err := b.InputStyle(c.Format)
-		if err != nil {
-			return err
-		}
-		if err := f.SetColStyle(name, col, is); err != nil {
-			return err
-		}
-		if err := f.SetColWidth(name, col, col, c.Width); err != nil {
-			return err
-		}
-		if err := f.SetCellValue(name, col+"1", c.Header()); err != nil {
-			return err
-		}
-		if err := f.SetCellStyle(name, col+"1", col+"1", hs); err != nil {
-			return err
-		}
-		if c.check == nil {
-			continue
-		}
-		dv := excelize.NewDataValidation(true)
-		dv.Sqref = fmt.Sprintf("%s2:%s%d", col, col, rows+1)
-		if err := c.check(dv); err != nil {
-			return fmt.Errorf("%s column %s: %w", name, c.Name, err)
-		}
-		if c.help != "" {
-			dv.SetInput(c.Name, c.help)
-		}
-		if err := f.AddDataValidation(name, dv); err != nil {
-			return err
-		}
-	}
-	for i, r := range data {
-		if err := f.SetSheetRow(name, "A"+strconv.Itoa(i+2), &r); err != nil {
-			return err
-		}
-	}
-	if err := b.printSetup(name); err != nil {
-		return err
-	}
-	if err := f.SetRowHeight(name, 1, 30); err != nil {
-		return err
-	}
-	return f.SetPanes(name, &excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"})
 }
 
 // instructionSheet writes the instructions: what goes where, in which units.
-func instructionSheet(b *Book, opt TemplateOptions, names []string) error {
+func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) error {
 	u := opt.Units
 	L, Q := u.Length(), u.Discharge()
 	lines := [][2]string{
@@ -403,9 +272,9 @@ func instructionSheet(b *Book, opt TemplateOptions, names []string) error {
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
 			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(FieldQualities, ", ") + ")."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
-		{"caution", Caution},
+		{"caution", rating.Caution},
 	}
-	s, err := b.Table(FieldSheetInstructions, []Column{{Name: "topic", Width: 18}, {Name: "what to enter", Width: 110}})
+	s, err := b.Table(FieldSheetInstructions, []workbook.Column{{Name: "topic", Width: 18}, {Name: "what to enter", Width: 110}})
 	if err != nil {
 		return err
 	}
@@ -418,7 +287,29 @@ func instructionSheet(b *Book, opt TemplateOptions, names []string) error {
 		return err
 	}
 	for _, l := range lines {
-		if err := s.Row(Styled{ls, l[0]}, Styled{ws, l[1]}); err != nil {
+		if err := s.Row(workbook.Styled{Style: ls, Value: l[0]}, workbook.Styled{Style: ws, Value: l[1]}); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+// WriteSurveySheet writes a survey as a table sheet with the columns of a
+// field workbook's cross-section sheet (see WriteTemplate), readable by
+// ReadSection. It lives here, beside the template, so that the
+// two never disagree.
+func WriteSurveySheet(b *workbook.Book, name string, sv Survey, u rating.Units) error {
+	cols := sectionColumns(u)
+	out := make([]workbook.Column, len(cols))
+	for i, c := range cols {
+		out[i] = c.Column
+	}
+	s, err := b.Table(name, out)
+	if err != nil {
+		return err
+	}
+	for _, r := range surveyRows(sv) {
+		if err := s.Row(r...); err != nil {
 			return err
 		}
 	}

@@ -162,7 +162,7 @@ func TestTemplateSheets(t *testing.T) {
 			for _, r := range instr {
 				text += strings.Join(r, " ") + "\n"
 			}
-			for _, want := range []string{survey.Caution, L, tc.opt.Units.Discharge(), "bank"} {
+			for _, want := range []string{rating.Caution, L, tc.opt.Units.Discharge(), "bank"} {
 				if !strings.Contains(text, want) {
 					t.Errorf("instructions lack %q", want)
 				}

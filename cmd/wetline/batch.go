@@ -17,6 +17,8 @@ import (
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 // batchFlags are the flags of rate that concern several surveys.
@@ -72,7 +74,7 @@ func (j batchJob) source() string {
 
 // batchResult is what rating one job gives.
 type batchResult struct {
-	entry survey.IndexEntry
+	entry results.IndexEntry
 	table rating.Table // kept only for the long table
 }
 
@@ -124,15 +126,15 @@ func runBatch(ctx context.Context, e *env, f *rateFlags, args []string) error {
 		}
 		b.protected = inputsIn(b.outDir, inputs)
 	} else if f.output != "" {
-		if err := survey.CheckOutput(f.output, inputs); err != nil {
+		if err := output.CheckOutput(f.output, inputs); err != nil {
 			return err
 		}
 	}
 	start := time.Now()
 	prog := &progress{e: e, total: len(jobs), start: start}
-	var entries []survey.IndexEntry
+	var entries []results.IndexEntry
 	failed := 0
-	emit := func(long *survey.LongRatingWriter) func(int, batchResult) error {
+	emit := func(long *results.LongRatingWriter) func(int, batchResult) error {
 		return func(i int, r batchResult) error {
 			entries = append(entries, r.entry)
 			if r.entry.Err != "" {
@@ -146,7 +148,7 @@ func runBatch(ctx context.Context, e *env, f *rateFlags, args []string) error {
 			return nil
 		}
 	}
-	run := func(long *survey.LongRatingWriter) error {
+	run := func(long *results.LongRatingWriter) error {
 		return orderedPool(ctx, len(jobs), runtime.GOMAXPROCS(0),
 			func(i int) batchResult { return b.rate(jobs[i]) }, emit(long))
 	}
@@ -157,15 +159,15 @@ func runBatch(ctx context.Context, e *env, f *rateFlags, args []string) error {
 		}
 		prog.done()
 		index := filepath.Join(b.outDir, indexFile)
-		if err := survey.WriteFile(index, b.protected, func(w io.Writer) error {
-			return survey.WriteIndexCSV(w, entries)
+		if err := output.WriteFile(index, b.protected, func(w io.Writer) error {
+			return results.WriteIndexCSV(w, entries)
 		}); err != nil {
 			return err
 		}
 		fmt.Fprintf(e.stderr, "rated %d of %d sections into %s (index: %s)\n", len(jobs)-failed, len(jobs), b.outDir, index)
 	default:
 		write := func(w io.Writer) error {
-			long := survey.NewLongRatingWriter(w)
+			long := results.NewLongRatingWriter(w)
 			if err := run(long); err != nil {
 				return err
 			}
@@ -174,7 +176,7 @@ func runBatch(ctx context.Context, e *env, f *rateFlags, args []string) error {
 		if f.output == "" {
 			err = write(e.stdout)
 		} else {
-			err = survey.WriteFile(f.output, inputs, write)
+			err = output.WriteFile(f.output, inputs, write)
 		}
 		if err != nil {
 			return err
@@ -193,7 +195,7 @@ func runBatch(ctx context.Context, e *env, f *rateFlags, args []string) error {
 			shown++
 		}
 	}
-	fmt.Fprintln(e.stderr, "caution: "+survey.Caution)
+	fmt.Fprintln(e.stderr, "caution: "+rating.Caution)
 	if failed > 0 {
 		return fmt.Errorf("%d of %d sections failed (each is listed with its error%s)", failed, len(jobs), indexNote(b.outDir))
 	}
@@ -210,7 +212,7 @@ func indexNote(dir string) string {
 // rate reads, rates and (with a folder) writes one survey.
 func (b *batch) rate(j batchJob) batchResult {
 	nan := math.NaN()
-	en := survey.IndexEntry{Section: j.name, Source: j.source(),
+	en := results.IndexEntry{Section: j.name, Source: j.source(),
 		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
 	fail := func(err error) batchResult {
 		en.Err = strings.ReplaceAll(strings.TrimSpace(err.Error()), "\n", "; ")
@@ -256,11 +258,11 @@ func (b *batch) rate(j batchJob) batchResult {
 	}
 	if b.outDir != "" {
 		path := filepath.Join(b.outDir, j.out)
-		if err := survey.WriteFile(path, b.protected, func(w io.Writer) error {
+		if err := output.WriteFile(path, b.protected, func(w io.Writer) error {
 			if b.format == "json" {
-				return survey.WriteRatingJSON(w, t, warnings)
+				return results.WriteRatingJSON(w, t, warnings)
 			}
-			return survey.WriteRatingCSV(w, t)
+			return results.WriteRatingCSV(w, t)
 		}); err != nil {
 			return fail(err)
 		}

@@ -15,6 +15,8 @@ import (
 
 	"wetline/rating"
 	"wetline/survey"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // bookSheet is a sheet of a results workbook read back: raw cell values
@@ -102,7 +104,7 @@ func (s bookSheet) style(t *testing.T, i, c int) (fill, format string) {
 // repeated item).
 func summary(t *testing.T, f *excelize.File) map[string]string {
 	t.Helper()
-	s := readSheet(t, f, survey.SheetSummary)
+	s := readSheet(t, f, results.SheetSummary)
 	out := map[string]string{}
 	for _, r := range s.rows[1:] {
 		out[r[0]] = r[1]
@@ -167,13 +169,13 @@ func TestFitResultsWorkbook(t *testing.T) {
 		t.Fatalf("%v: %s", err, errs)
 	}
 	f := openBook(t, path)
-	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetFitTable, survey.SheetLookup, survey.SheetNByStage, survey.SheetPlots}
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetLookup, results.SheetNByStage, results.SheetPlots}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
 
 	sum := summary(t, f)
-	for item, want := range map[string]string{"caution": survey.Caution, "program": "wetline " + Version, "gaugings": strconv.Itoa(len(rep.Gaugings))} {
+	for item, want := range map[string]string{"caution": rating.Caution, "program": "wetline " + Version, "gaugings": strconv.Itoa(len(rep.Gaugings))} {
 		if sum[item] != want {
 			t.Errorf("summary %q = %q, want %q", item, sum[item], want)
 		}
@@ -190,7 +192,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 		}
 	}
 
-	g := readSheet(t, f, survey.SheetGaugings)
+	g := readSheet(t, f, results.SheetGaugings)
 	if len(g.rows)-1 != len(rep.Gaugings) {
 		t.Fatalf("%d gauging rows, want %d", len(g.rows)-1, len(rep.Gaugings))
 	}
@@ -207,14 +209,14 @@ func TestFitResultsWorkbook(t *testing.T) {
 			low, high = min(low, jg.Stage), max(high, jg.Stage)
 		}
 	}
-	if _, format := g.style(t, 0, ct); format != survey.FormatDateTime {
+	if _, format := g.style(t, 0, ct); format != workbook.FormatDateTime {
 		t.Errorf("time format %q", format)
 	}
 	if _, format := g.style(t, 0, g.col(t, "stage")); format != "0.000" {
 		t.Errorf("stage format %q", format)
 	}
 
-	ft := readSheet(t, f, survey.SheetFitTable)
+	ft := readSheet(t, f, results.SheetFitTable)
 	if len(ft.rows)-1 != len(rep.Table) {
 		t.Fatalf("%d table rows, want %d", len(ft.rows)-1, len(rep.Table))
 	}
@@ -226,7 +228,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 			t.Errorf("table row %d: %q, want %+v", i+1, ft.rows[i+1], jr)
 		}
 		fill, format := ft.style(t, i, cq)
-		if x := ft.rows[i+1][cx]; (x == "yes") != jr.Extrapolated || (fill == survey.MarkFill) != jr.Extrapolated {
+		if x := ft.rows[i+1][cx]; (x == "yes") != jr.Extrapolated || (fill == workbook.MarkFill) != jr.Extrapolated {
 			t.Errorf("table row %d (stage %g): extrapolated %q, fill %q, want %v", i+1, jr.Stage, x, fill, jr.Extrapolated)
 		}
 		if format == "" && jr.Discharge != 0 {
@@ -269,7 +271,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 		}
 		return s.C * math.Pow(h-s.E, s.B)
 	}
-	lk := readSheet(t, f, survey.SheetLookup)
+	lk := readSheet(t, f, results.SheetLookup)
 	if lk.rows[0][0] != "stage (m)" || lk.rows[0][1] != "+0.00 (m)" || lk.rows[0][10] != "+0.09 (m)" {
 		t.Errorf("lookup header %q", lk.rows[0])
 	}
@@ -297,7 +299,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 				}
 			}
 			fill, format := lk.style(t, i, j)
-			if ext := h < low || h > high; (fill == survey.MarkFill) != ext {
+			if ext := h < low || h > high; (fill == workbook.MarkFill) != ext {
 				t.Errorf("lookup at %.2f: fill %q, extrapolated %v", h, fill, ext)
 			}
 			if format == "" {
@@ -309,7 +311,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 		t.Errorf("%d lookup cells, %d on table stages", cells, onTable)
 	}
 
-	nb := readSheet(t, f, survey.SheetNByStage)
+	nb := readSheet(t, f, results.SheetNByStage)
 	if len(nb.rows)-1 != len(rep.Gaugings) {
 		t.Errorf("%d n rows, want %d", len(nb.rows)-1, len(rep.Gaugings))
 	}
@@ -318,12 +320,12 @@ func TestFitResultsWorkbook(t *testing.T) {
 			t.Errorf("n by stage row %d: n = %g", i+1, n)
 		}
 	}
-	if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != 1 {
+	if pics, err := f.GetPictureCells(results.SheetPlots); err != nil || len(pics) != 1 {
 		t.Errorf("plots: %v pictures, %v", pics, err)
 	}
 	// The gaugings sheet has the columns of a field workbook's: it reads
 	// back as gaugings.
-	back, err := survey.ReadGaugings(path, survey.SheetGaugings)
+	back, err := survey.ReadGaugings(path, results.SheetGaugings)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -346,13 +348,13 @@ func TestFitWorkbookComparisonOnly(t *testing.T) {
 		t.Fatalf("%v: %s", err, errs)
 	}
 	f := openBook(t, path)
-	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetNByStage, survey.SheetPlots}
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetNByStage, results.SheetPlots}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Errorf("sheets %q, want %q", got, want)
 	}
-	g := readSheet(t, f, survey.SheetGaugings)
+	g := readSheet(t, f, results.SheetGaugings)
 	g.col(t, "hydraulic_departure")
-	if s := summary(t, f); s["caution"] != survey.Caution || !strings.Contains(s["method"], "comparison") {
+	if s := summary(t, f); s["caution"] != rating.Caution || !strings.Contains(s["method"], "comparison") {
 		t.Errorf("summary %q", s)
 	}
 }
@@ -423,8 +425,8 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	f := openBook(t, path)
-	want := []string{survey.SheetSummary, survey.SheetReachInputs, survey.SheetSections, survey.SheetSubreaches,
-		survey.SheetChecks, survey.SheetUncertainty, survey.SheetPlots}
+	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubreaches,
+		results.SheetChecks, results.SheetUncertainty, results.SheetPlots}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
@@ -435,11 +437,11 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
 		}
 	}
-	if sum["caution"] != survey.Caution || sum["program"] != "wetline "+Version || !strings.Contains(sum["method"], "Dalrymple") ||
+	if sum["caution"] != rating.Caution || sum["program"] != "wetline "+Version || !strings.Contains(sum["method"], "Dalrymple") ||
 		sum["reach length"] == "" || sum["fall"] == "" || !strings.Contains(sum["units"], "m3/s") {
 		t.Errorf("summary %q", sum)
 	}
-	ss := readSheet(t, f, survey.SheetSummary)
+	ss := readSheet(t, f, results.SheetSummary)
 	for i, r := range ss.rows[1:] {
 		if r[0] == "peak discharge" {
 			if _, format := ss.style(t, i, 1); format == "" {
@@ -448,12 +450,12 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		}
 	}
 
-	in := readSheet(t, f, survey.SheetReachInputs)
+	in := readSheet(t, f, results.SheetReachInputs)
 	for _, name := range []string{"section", "survey", "distance", "ws_left", "ws_right", "quality", "note"} {
 		in.col(t, name)
 	}
-	sec := readSheet(t, f, survey.SheetSections)
-	sub := readSheet(t, f, survey.SheetSubreaches)
+	sec := readSheet(t, f, results.SheetSections)
+	sub := readSheet(t, f, results.SheetSubreaches)
 	if len(in.rows)-1 != len(rep.Sections) || len(sec.rows)-1 != len(rep.Sections) || len(sub.rows)-1 != len(rep.Subreaches) {
 		t.Fatalf("rows: inputs %d, sections %d, subreaches %d", len(in.rows)-1, len(sec.rows)-1, len(sub.rows)-1)
 	}
@@ -474,7 +476,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		}
 	}
 
-	ch := readSheet(t, f, survey.SheetChecks)
+	ch := readSheet(t, f, results.SheetChecks)
 	if len(ch.rows)-1 != len(rep.Checks) {
 		t.Fatalf("%d check rows, want %d", len(ch.rows)-1, len(rep.Checks))
 	}
@@ -485,7 +487,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 			!closeTo(ch.num(t, i, ch.col(t, "value")), c.Value, relClose) {
 			t.Errorf("check %d: %q, want %+v", i+1, row, c)
 		}
-		if fill, _ := ch.style(t, i, ch.col(t, "status")); (fill == survey.MarkFill) != !c.Pass {
+		if fill, _ := ch.style(t, i, ch.col(t, "status")); (fill == workbook.MarkFill) != !c.Pass {
 			t.Errorf("check %q: fill %q, pass %v", c.Name, fill, c.Pass)
 		}
 		if !c.Pass {
@@ -496,7 +498,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Log("no check warns on the demo reach: the marked style is not exercised")
 	}
 
-	un := readSheet(t, f, survey.SheetUncertainty)
+	un := readSheet(t, f, results.SheetUncertainty)
 	got := map[string]string{}
 	for _, r := range un.rows[1:] {
 		got[r[0]+"|"+r[1]] = r[2]
@@ -512,7 +514,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 			t.Errorf("uncertainty lacks dQ/dh at %s", s.ID)
 		}
 	}
-	if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != 2 {
+	if pics, err := f.GetPictureCells(results.SheetPlots); err != nil || len(pics) != 2 {
 		t.Errorf("plots: %v pictures, %v", pics, err)
 	}
 }
@@ -552,7 +554,7 @@ func TestDemoWritesResultsWorkbooks(t *testing.T) {
 	for _, tc := range []struct {
 		name, sheet string
 		pictures    int
-	}{{"tallow-fit.xlsx", survey.SheetLookup, 1}, {"reach-brindle-slopearea.xlsx", survey.SheetChecks, 2}} {
+	}{{"tallow-fit.xlsx", results.SheetLookup, 1}, {"reach-brindle-slopearea.xlsx", results.SheetChecks, 2}} {
 		if !strings.Contains(out, tc.name) {
 			t.Errorf("demo does not list %s", tc.name)
 		}
@@ -560,7 +562,7 @@ func TestDemoWritesResultsWorkbooks(t *testing.T) {
 		if !slices.Contains(f.GetSheetList(), tc.sheet) {
 			t.Errorf("%s: no %s sheet in %q", tc.name, tc.sheet, f.GetSheetList())
 		}
-		if pics, err := f.GetPictureCells(survey.SheetPlots); err != nil || len(pics) != tc.pictures {
+		if pics, err := f.GetPictureCells(results.SheetPlots); err != nil || len(pics) != tc.pictures {
 			t.Errorf("%s: %v pictures, %v", tc.name, pics, err)
 		}
 	}

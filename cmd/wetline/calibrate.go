@@ -9,6 +9,7 @@ import (
 	"wetline/rating"
 	"wetline/rating/gauged"
 	"wetline/survey"
+	"wetline/survey/results"
 )
 
 // calibrateFlags let a command scale the survey's n so that its hydraulic
@@ -61,7 +62,7 @@ func (c *calibrateFlags) apply(l *loaded, slope float64, changed func(string) bo
 	l.warnings = append(l.warnings, cal.Warnings...)
 	l.warnings = append(l.warnings, fmt.Sprintf(
 		"n calibrated on %d gaugings in %s (gauge datum: elevation = gauge height + %s %s): %s multiplied by %.4f; standard error against them %.1f %%",
-		len(gs.Gaugings), c.gaugings, survey.FormatFloat(c.datum), l.units.Length(), which, cal.Factor, cal.StandardErrorPercent))
+		len(gs.Gaugings), c.gaugings, results.FormatFloat(c.datum), l.units.Length(), which, cal.Factor, cal.StandardErrorPercent))
 	l.geom = rating.ScaledN{Geometry: l.geom, Factor: cal.Factor, ChannelOnly: c.channelOnly}
 	return nil
 }

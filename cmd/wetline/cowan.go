@@ -7,7 +7,6 @@ import (
 	"io"
 
 	"wetline/rating"
-	"wetline/survey"
 )
 
 const cowanUsage = "cowan [--floodplain] --bed MATERIAL [--irregularity K] [--variation K] [--obstruction K] [--vegetation K] [--meander K] | cowan --list"
@@ -59,7 +58,7 @@ func runCowan(ctx context.Context, e *env, args []string) error {
 	}
 	fmt.Fprintf(e.stdout, "n = %.3f (range %.3f to %.3f, from the low and high ends of every term)\n", res.N, res.Lo, res.Hi)
 	fmt.Fprintf(e.stdout, "values: %s; %s; check them against the paper\n", res.Terms[0].Factor.Table, res.Terms[1].Factor.Table)
-	fmt.Fprintln(e.stdout, "caution: "+survey.Caution)
+	fmt.Fprintln(e.stdout, "caution: "+rating.Caution)
 	return nil
 }
 

@@ -2,8 +2,7 @@ package main
 
 import (
 	"io"
-
-	"wetline/survey"
+	"wetline/survey/output"
 )
 
 // delivery is what a command hands back: its report, to standard output or
@@ -38,7 +37,7 @@ func (d delivery) deliver(e *env) error {
 		}
 		return nil
 	}
-	if err := survey.WriteFile(d.output, d.inputs, d.write); err != nil {
+	if err := output.WriteFile(d.output, d.inputs, d.write); err != nil {
 		return err
 	}
 	if err := writeFigures(e.stderr, d.plots, d.figs, append([]string{d.output}, d.inputs...)); err != nil {

@@ -11,7 +11,8 @@ import (
 	"strings"
 
 	"wetline/rating"
-	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 // demoFiles holds the invented demo site: Tallow Creek at Mill Lane.
@@ -72,7 +73,7 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 			return err
 		}
 	}
-	fmt.Fprintln(e.stdout, "\ncaution: "+survey.Caution)
+	fmt.Fprintln(e.stdout, "\ncaution: "+rating.Caution)
 	return nil
 }
 
@@ -111,7 +112,7 @@ func copyDemoFile(e *env, dir, name, what string) (string, error) {
 		return "", err
 	}
 	path := filepath.Join(dir, name)
-	if err := survey.WriteFile(path, nil, func(w io.Writer) error {
+	if err := output.WriteFile(path, nil, func(w io.Writer) error {
 		_, err := w.Write(data)
 		return err
 	}); err != nil {
@@ -142,11 +143,11 @@ func demoRating(ctx context.Context, e *env, dir string) error {
 		write      func(io.Writer) error
 	}{
 		{"tallow-xs1-rating.csv", fmt.Sprintf("rating table, %d stages at slope %g", len(t.Rows), demoSlope),
-			func(w io.Writer) error { return survey.WriteRatingCSV(w, t) }},
+			func(w io.Writer) error { return results.WriteRatingCSV(w, t) }},
 		{"tallow-xs1-rating.json", "the same table as JSON, with subsections and warnings",
-			func(w io.Writer) error { return survey.WriteRatingJSON(w, t, warnings) }},
+			func(w io.Writer) error { return results.WriteRatingJSON(w, t, warnings) }},
 	} {
-		if err := survey.WriteFile(filepath.Join(dir, f.name), []string{path}, f.write); err != nil {
+		if err := output.WriteFile(filepath.Join(dir, f.name), []string{path}, f.write); err != nil {
 			return err
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", f.name, f.what)

@@ -7,8 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-
-	"wetline/survey"
+	"wetline/survey/output"
 )
 
 // demoGaugeReach lists the surveyed sections of the demo reach, upstream first.
@@ -26,7 +25,7 @@ func demoBatch(ctx context.Context, e *env, dir string) error {
 		if err != nil {
 			return err
 		}
-		if err := survey.WriteFile(filepath.Join(reach, name), nil, func(w io.Writer) error {
+		if err := output.WriteFile(filepath.Join(reach, name), nil, func(w io.Writer) error {
 			_, err := w.Write(data)
 			return err
 		}); err != nil {

@@ -9,6 +9,8 @@ import (
 	"wetline/rating"
 	"wetline/rating/gauged"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 // Demo gauging facts: the invented measurements and the staff gauge's zero.
@@ -50,13 +52,13 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 		write      func(io.Writer) error
 	}{
 		{"tallow-fit.txt", fmt.Sprintf("gaugings against the rating, n back-calculated, power-law fit (standard error %.1f %%)", rep.Fit.StandardErrorPercent),
-			func(w io.Writer) error { return survey.WriteGaugingReportText(w, rep) }},
+			func(w io.Writer) error { return results.WriteGaugingReportText(w, rep) }},
 		{"tallow-fit.json", "the same report as JSON",
-			func(w io.Writer) error { return survey.WriteGaugingReportJSON(w, rep) }},
+			func(w io.Writer) error { return results.WriteGaugingReportJSON(w, rep) }},
 		{"tallow-fit-table.csv", "lookup table from the fit, extrapolated rows marked",
-			func(w io.Writer) error { return survey.WriteGaugingReportCSV(w, rep) }},
+			func(w io.Writer) error { return results.WriteGaugingReportCSV(w, rep) }},
 	} {
-		if err := survey.WriteFile(filepath.Join(dir, f.name), inputs, f.write); err != nil {
+		if err := output.WriteFile(filepath.Join(dir, f.name), inputs, f.write); err != nil {
 			return err
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", f.name, f.what)
@@ -74,8 +76,8 @@ func demoFit(ctx context.Context, e *env, dir string) error {
 		return err
 	}
 	const bookName = "tallow-fit.xlsx"
-	if err := survey.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
-		return survey.WriteFitWorkbook(w, book)
+	if err := output.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
+		return results.WriteFitWorkbook(w, book)
 	}); err != nil {
 		return err
 	}

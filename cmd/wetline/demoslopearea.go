@@ -5,8 +5,8 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
-
-	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 // Demo slope-area reach: Brindle Creek below Quarry Road, an invented
@@ -40,11 +40,11 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 		ext, what string
 		write     func(io.Writer) error
 	}{
-		{".txt", "slope-area report for review", func(w io.Writer) error { return survey.WriteSlopeAreaText(w, rep) }},
-		{".json", "the same report as JSON", func(w io.Writer) error { return survey.WriteSlopeAreaJSON(w, rep) }},
+		{".txt", "slope-area report for review", func(w io.Writer) error { return results.WriteSlopeAreaText(w, rep) }},
+		{".json", "the same report as JSON", func(w io.Writer) error { return results.WriteSlopeAreaJSON(w, rep) }},
 	} {
 		name := demoReachReport + o.ext
-		if err := survey.WriteFile(filepath.Join(dir, name), inputs, o.write); err != nil {
+		if err := output.WriteFile(filepath.Join(dir, name), inputs, o.write); err != nil {
 			return err
 		}
 		fmt.Fprintf(e.stdout, "  %-28s %s\n", name, o.what)
@@ -58,8 +58,8 @@ func demoSlopeArea(ctx context.Context, e *env, dir string) error {
 		return err
 	}
 	bookName := demoReachReport + ".xlsx"
-	if err := survey.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
-		return survey.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
+	if err := output.WriteFile(filepath.Join(dir, bookName), inputs, func(w io.Writer) error {
+		return results.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
 	}); err != nil {
 		return err
 	}

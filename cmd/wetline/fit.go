@@ -12,6 +12,8 @@ import (
 	"wetline/rating"
 	"wetline/rating/gauged"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S [--datum D] [--channel-only] [--compare-only]] " +
@@ -91,7 +93,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		opt.Site = l.survey.Section.Name
 	}
 	if f.output != "" {
-		if err := survey.CheckOutput(f.output, inputs); err != nil {
+		if err := output.CheckOutput(f.output, inputs); err != nil {
 			return err
 		}
 	}
@@ -118,7 +120,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Warnings = append(rep.Warnings, w...)
 	}
-	var book survey.FitWorkbook
+	var book results.FitWorkbook
 	if format == "xlsx" {
 		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 		if book, err = fitBook(rep, opt.Hydraulic, inputs, f.site, base, figs); err != nil {
@@ -128,13 +130,13 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	write := func(w io.Writer) error {
 		switch format {
 		case "xlsx":
-			return survey.WriteFitWorkbook(w, book)
+			return results.WriteFitWorkbook(w, book)
 		case "json":
-			return survey.WriteGaugingReportJSON(w, rep)
+			return results.WriteGaugingReportJSON(w, rep)
 		case "csv":
-			return survey.WriteGaugingReportCSV(w, rep)
+			return results.WriteGaugingReportCSV(w, rep)
 		}
-		return survey.WriteGaugingReportText(w, rep)
+		return results.WriteGaugingReportText(w, rep)
 	}
 	return delivery{output: f.output, inputs: inputs, write: write, inline: format == "text", warnings: rep.Warnings,
 		plots: f.plots, figs: figs,
@@ -209,7 +211,7 @@ func (f *fitFlags) options(changed func(string) bool) (gauged.Options, error) {
 func summarizeFit(w io.Writer, r *gauged.Report, path string) {
 	fmt.Fprintf(w, "wrote %s: %d gaugings", path, len(r.Gaugings))
 	if r.Comparison != nil {
-		fmt.Fprintf(w, "; gauge datum: elevation = gauge height + %s %s", survey.FormatFloat(r.Datum), r.Units.Length())
+		fmt.Fprintf(w, "; gauge datum: elevation = gauge height + %s %s", results.FormatFloat(r.Datum), r.Units.Length())
 	} else {
 		fmt.Fprint(w, "; stages are gauge heights as read (no section)")
 	}
@@ -228,5 +230,5 @@ func summarizeFit(w io.Writer, r *gauged.Report, path string) {
 		fmt.Fprintf(w, "  %s\n", t.ScaleNote)
 	}
 	printWarnings(w, r.Warnings)
-	fmt.Fprintln(w, "caution: "+survey.Caution)
+	fmt.Fprintln(w, "caution: "+rating.Caution)
 }

@@ -7,7 +7,8 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
-	"wetline/survey"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // fitBook gathers the results workbook of a gaugings report: the lookup
@@ -15,11 +16,11 @@ import (
 // hydraulic rating the report was made with, nil when none) and the fit
 // figure. A stage range too long for a lookup sheet leaves the sheet out
 // with a warning. figs are figures already drawn (nil: draw them).
-func fitBook(rep *gauged.Report, c *rating.HydraulicCurve, sources []string, site, base string, figs []figureFile) (survey.FitWorkbook, error) {
-	fw := survey.FitWorkbook{Report: rep, Version: Version, Source: strings.Join(sources, "; ")}
-	cells, err := survey.FitLookupCells(rep, c)
+func fitBook(rep *gauged.Report, c *rating.HydraulicCurve, sources []string, site, base string, figs []figureFile) (results.FitWorkbook, error) {
+	fw := results.FitWorkbook{Report: rep, Version: Version, Source: strings.Join(sources, "; ")}
+	cells, err := results.FitLookupCells(rep, c)
 	switch {
-	case errors.Is(err, survey.ErrLookupRange):
+	case errors.Is(err, results.ErrLookupRange):
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("no lookup sheet: %v", err))
 	case err != nil:
 		return fw, fmt.Errorf("lookup sheet: %w", err)
@@ -33,7 +34,7 @@ func fitBook(rep *gauged.Report, c *rating.HydraulicCurve, sources []string, sit
 		rep.Warnings = append(rep.Warnings, w...)
 	}
 	for _, f := range figs {
-		fw.Pictures = append(fw.Pictures, survey.Picture{Name: f.what, PNG: f.data})
+		fw.Pictures = append(fw.Pictures, workbook.Picture{Name: f.what, PNG: f.data})
 	}
 	return fw, nil
 }

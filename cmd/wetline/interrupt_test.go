@@ -11,8 +11,7 @@ import (
 	"syscall"
 	"testing"
 	"time"
-
-	"wetline/survey"
+	"wetline/survey/output"
 )
 
 // helperEnv makes the test binary act as the wetline program (see
@@ -23,7 +22,7 @@ const helperEnv = "WETLINE_TEST_AS_PROGRAM"
 func TestMain(m *testing.M) {
 	if os.Getenv(helperEnv) != "" {
 		commands["stall"] = command{"write part of a file, then wait", func(ctx context.Context, e *env, args []string) error {
-			return survey.WriteFile(args[0], nil, func(w io.Writer) error {
+			return output.WriteFile(args[0], nil, func(w io.Writer) error {
 				io.WriteString(w, "stage,discharge\n1,2\n")
 				<-ctx.Done()
 				time.Sleep(time.Minute) // the handler exits the program first

@@ -9,10 +9,10 @@ import (
 	"os/signal"
 	"sort"
 	"strings"
+	"wetline/rating"
+	"wetline/survey/output"
 
 	"github.com/spf13/pflag"
-
-	"wetline/survey"
 )
 
 // Version is the program version stated in every report.
@@ -63,7 +63,7 @@ func main() {
 		<-sigs
 		// Interrupted: no partial output may stay behind.
 		cancel()
-		survey.RemoveTemps()
+		output.RemoveTemps()
 		fmt.Fprintln(os.Stderr, "wetline: interrupted; no partial output left")
 		os.Exit(130)
 	}()
@@ -125,7 +125,7 @@ func printUsage(w io.Writer) {
 		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].summary)
 	}
 	fmt.Fprintln(w, "\nRun 'wetline COMMAND --help' for a command's flags.")
-	fmt.Fprintln(w, "\nCaution: "+survey.Caution)
+	fmt.Fprintln(w, "\nCaution: "+rating.Caution)
 }
 
 // newFlags returns a flag set for a subcommand with -h/--help defined, so

@@ -13,6 +13,7 @@ import (
 	"wetline/plotting"
 	"wetline/rating"
 	"wetline/survey"
+	"wetline/survey/output"
 )
 
 const plotUsage = "plot TABLE.csv [--section SURVEY [--n N] [--banks A,B]] [--units si|us] [--zero-flow E] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
@@ -81,7 +82,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	printWarnings(e.stderr, warnings)
-	fmt.Fprintln(e.stderr, "caution: "+survey.Caution)
+	fmt.Fprintln(e.stderr, "caution: "+rating.Caution)
 	return nil
 }
 
@@ -177,7 +178,7 @@ func writeFigures(w io.Writer, dir string, figs []figureFile, inputs []string) e
 	}
 	for _, f := range figs {
 		path := filepath.Join(dir, f.name)
-		if err := survey.WriteFile(path, inputs, func(out io.Writer) error {
+		if err := output.WriteFile(path, inputs, func(out io.Writer) error {
 			_, err := out.Write(f.data)
 			return err
 		}); err != nil {

@@ -9,7 +9,8 @@ import (
 	"strings"
 
 	"wetline/rating"
-	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 type rateFlags struct {
@@ -65,7 +66,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	if f.output != "" {
-		if err := survey.CheckOutput(f.output, l.inputs); err != nil {
+		if err := output.CheckOutput(f.output, l.inputs); err != nil {
 			return err
 		}
 	}
@@ -84,7 +85,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	warnings = append(warnings, figWarnings...)
-	var book survey.RatingWorkbook
+	var book results.RatingWorkbook
 	if format == "xlsx" {
 		if book, warnings, err = ratingBook(l, t, warnings); err != nil {
 			return fmt.Errorf("%s: %w", fs.Arg(0), err)
@@ -93,13 +94,13 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	write := func(w io.Writer) error {
 		switch format {
 		case "json":
-			return survey.WriteRatingJSON(w, t, warnings)
+			return results.WriteRatingJSON(w, t, warnings)
 		case "text":
-			return survey.WriteRatingText(w, t, warnings)
+			return results.WriteRatingText(w, t, warnings)
 		case "xlsx":
-			return survey.WriteRatingWorkbook(w, book)
+			return results.WriteRatingWorkbook(w, book)
 		}
-		return survey.WriteRatingCSV(w, t)
+		return results.WriteRatingCSV(w, t)
 	}
 	return delivery{output: f.output, inputs: l.inputs, write: write, inline: format == "text", warnings: warnings,
 		plots: *plotDir, figs: figs,
@@ -185,7 +186,7 @@ func summarizeRating(w io.Writer, t rating.Table, path string, warnings []string
 	}
 	fmt.Fprintf(w, " (slope %g, %s units)\n", t.Slope, u)
 	printWarnings(w, warnings)
-	fmt.Fprintln(w, "caution: "+survey.Caution)
+	fmt.Fprintln(w, "caution: "+rating.Caution)
 }
 
 // sig3 formats a value to three significant figures for a summary.

@@ -10,14 +10,17 @@ import (
 
 	"wetline/rating"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // ratingBook gathers the results workbook of a rating: the table as
 // computed, the same section rated at every hundredth of stage over the
 // table's range for the lookup sheet, and the summary facts. A range too
 // long for a lookup sheet leaves the sheet out with a warning.
-func ratingBook(l *loaded, t rating.Table, warnings []string) (survey.RatingWorkbook, []string, error) {
-	rw := survey.RatingWorkbook{Table: t, Version: Version, Source: l.survey.File, Survey: l.survey}
+func ratingBook(l *loaded, t rating.Table, warnings []string) (results.RatingWorkbook, []string, error) {
+	rw := results.RatingWorkbook{Table: t, Version: Version, Source: l.survey.File, Survey: l.survey}
 	if l.survey.Sheet != "" {
 		rw.Source += " ['" + l.survey.Sheet + "']"
 	}
@@ -26,7 +29,7 @@ func ratingBook(l *loaded, t rating.Table, warnings []string) (survey.RatingWork
 		lo, hi = min(lo, r.Stage), max(hi, r.Stage)
 	}
 	if len(t.Rows) > 0 {
-		stages, err := survey.LookupStages(lo, hi)
+		stages, err := results.LookupStages(lo, hi)
 		if err != nil {
 			warnings = append(warnings, fmt.Sprintf("no lookup sheet: %v", err))
 		} else {
@@ -49,7 +52,7 @@ func ratingBook(l *loaded, t rating.Table, warnings []string) (survey.RatingWork
 	}
 	warnings = append(warnings, figWarnings...)
 	for _, f := range figs {
-		rw.Pictures = append(rw.Pictures, survey.Picture{Name: f.what, PNG: f.data})
+		rw.Pictures = append(rw.Pictures, workbook.Picture{Name: f.what, PNG: f.data})
 	}
 	rw.Warnings = warnings
 	return rw, warnings, nil
@@ -71,7 +74,7 @@ func demoWorkbook(ctx context.Context, e *env, dir string) error {
 	}
 	const fieldName, resultsName = "tallow-field.xlsx", "tallow-xs1-results.xlsx"
 	field := filepath.Join(dir, fieldName)
-	if err := survey.WriteFile(field, []string{csvPath}, func(w io.Writer) error {
+	if err := output.WriteFile(field, []string{csvPath}, func(w io.Writer) error {
 		return survey.WriteTemplate(w, survey.TemplateOptions{Surveys: []survey.Survey{sv}})
 	}); err != nil {
 		return err
@@ -91,8 +94,8 @@ func demoWorkbook(ctx context.Context, e *env, dir string) error {
 	if err != nil {
 		return err
 	}
-	if err := survey.WriteFile(filepath.Join(dir, resultsName), l.inputs, func(w io.Writer) error {
-		return survey.WriteRatingWorkbook(w, rw)
+	if err := output.WriteFile(filepath.Join(dir, resultsName), l.inputs, func(w io.Writer) error {
+		return results.WriteRatingWorkbook(w, rw)
 	}); err != nil {
 		return err
 	}

@@ -12,6 +12,7 @@ import (
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/output"
 )
 
 // registerShape adds the flags for built shapes and composite roughness.
@@ -147,13 +148,13 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	comments := []string{
 		fmt.Sprintf("Built section %s, lengths in %s; invert at elevation %g.", sh.String(), u.Length(), sh.Invert),
 		fmt.Sprintf("The sides stop at the nominal top, %g %s above the invert; edit the points freely.", sh.NominalHeight(), u.Length()),
-		"Caution: " + survey.Caution,
+		"Caution: " + rating.Caution,
 	}
 	write := func(w io.Writer) error { return survey.WriteSectionCSV(w, sec, comments) }
 	if *out == "" {
 		return write(e.stdout)
 	}
-	if err := survey.WriteFile(*out, nil, write); err != nil {
+	if err := output.WriteFile(*out, nil, write); err != nil {
 		return err
 	}
 	fmt.Fprintf(e.stderr, "wrote %s: %d points of %s\n", *out, len(sec.Points), sh.String())

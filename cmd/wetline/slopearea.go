@@ -12,6 +12,9 @@ import (
 	"wetline/rating/reach"
 	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
@@ -113,12 +116,12 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	}
 	write := func(w io.Writer) error {
 		if format == "xlsx" {
-			return survey.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
+			return results.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
 		}
 		if format == "json" {
-			return survey.WriteSlopeAreaJSON(w, rep)
+			return results.WriteSlopeAreaJSON(w, rep)
 		}
-		return survey.WriteSlopeAreaText(w, rep)
+		return results.WriteSlopeAreaText(w, rep)
 	}
 	return delivery{output: f.output, inputs: inputs, write: write, inline: format == "text", warnings: rep.Warnings,
 		plots: f.plots, figs: plotFigs,
@@ -127,8 +130,8 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 
 // slopeArea reads a reach and computes its slope-area report. It returns
 // the files read, which no output may overwrite.
-func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string, error) {
-	rep := survey.SlopeAreaReport{Version: Version}
+func slopeArea(path string, f *slopeAreaFlags) (results.SlopeAreaReport, []string, error) {
+	rep := results.SlopeAreaReport{Version: Version}
 	u, side, err := f.check()
 	if err != nil {
 		return rep, nil, err
@@ -140,7 +143,7 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 	rep.Reach = rt
 	inputs := rt.Inputs()
 	if f.output != "" {
-		if err := survey.CheckOutput(f.output, inputs); err != nil {
+		if err := output.CheckOutput(f.output, inputs); err != nil {
 			return rep, nil, err
 		}
 	}
@@ -200,7 +203,7 @@ func slopeArea(path string, f *slopeAreaFlags) (survey.SlopeAreaReport, []string
 }
 
 // summarizeSlopeArea prints the console summary of a written report.
-func summarizeSlopeArea(w io.Writer, rep survey.SlopeAreaReport, path string) {
+func summarizeSlopeArea(w io.Writer, rep results.SlopeAreaReport, path string) {
 	r := rep.Result
 	fmt.Fprintf(w, "wrote %s: %s peak discharge %s %s", path, r.Method, sig3(r.Discharge), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
@@ -214,16 +217,16 @@ func summarizeSlopeArea(w io.Writer, rep survey.SlopeAreaReport, path string) {
 	}
 	fmt.Fprintf(w, ", %d of %d checks warn\n", warn, len(r.Checks))
 	printWarnings(w, rep.Warnings)
-	fmt.Fprintln(w, "caution: "+survey.Caution)
+	fmt.Fprintln(w, "caution: "+rating.Caution)
 }
 
 func saNaN() float64 { return math.NaN() }
 
 // pictures turns figures into workbook pictures captioned by what they show.
-func pictures(figs []figureFile) []survey.Picture {
-	out := make([]survey.Picture, len(figs))
+func pictures(figs []figureFile) []workbook.Picture {
+	out := make([]workbook.Picture, len(figs))
 	for i, f := range figs {
-		out[i] = survey.Picture{Name: f.what, PNG: f.data}
+		out[i] = workbook.Picture{Name: f.what, PNG: f.data}
 	}
 	return out
 }

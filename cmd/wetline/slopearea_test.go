@@ -11,8 +11,8 @@ import (
 	"testing"
 
 	"wetline/plotting"
+	"wetline/rating"
 	"wetline/rating/reach"
-	"wetline/survey"
 )
 
 func TestSlopeAreaTextGolden(t *testing.T) {
@@ -20,7 +20,7 @@ func TestSlopeAreaTextGolden(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	for _, want := range []string{"Peak discharge", "Quality checks", "Uncertainty", "dQ/dn", "Caution: " + survey.Caution} {
+	for _, want := range []string{"Peak discharge", "Quality checks", "Uncertainty", "dQ/dn", "Caution: " + rating.Caution} {
 		if !strings.Contains(out, want) {
 			t.Errorf("report lacks %q", want)
 		}
@@ -176,7 +176,7 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"Quality checks", "90 % band", survey.Caution} {
+	for _, want := range []string{"Quality checks", "90 % band", rating.Caution} {
 		if !strings.Contains(string(report), want) {
 			t.Errorf("demo report lacks %q", want)
 		}

@@ -9,12 +9,12 @@ import (
 	"strings"
 
 	"wetline/plotting"
-	"wetline/survey"
+	"wetline/survey/results"
 )
 
 // slopeAreaFigures draws the reach profile and the sections overlaid, in
 // memory, for a slope-area report.
-func slopeAreaFigures(rep survey.SlopeAreaReport, site string) ([]figureFile, []string, error) {
+func slopeAreaFigures(rep results.SlopeAreaReport, site string) ([]figureFile, []string, error) {
 	r := rep.Result
 	base := "reach"
 	if rep.Reach != nil {
@@ -65,7 +65,7 @@ func slopeAreaFigures(rep survey.SlopeAreaReport, site string) ([]figureFile, []
 }
 
 // sideWords says which marks set the water surface.
-func sideWords(rep survey.SlopeAreaReport) string {
+func sideWords(rep results.SlopeAreaReport) string {
 	switch s := fmt.Sprint(rep.Result.Side); s {
 	case "left", "right":
 		return "the " + s + " marks"

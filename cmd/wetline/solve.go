@@ -9,7 +9,8 @@ import (
 	"path/filepath"
 
 	"wetline/rating"
-	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
 )
 
 const solveUsage = "solve (SURVEY | --shape SPEC) (--discharge Q [--slope S] | --area A | --stage H [--slope S]) [--n ...] [--composite M] [--units si|us] [--format text|json] [-o FILE]"
@@ -65,7 +66,7 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	if f.output != "" {
-		if err := survey.CheckOutput(f.output, l.inputs); err != nil {
+		if err := output.CheckOutput(f.output, l.inputs); err != nil {
 			return err
 		}
 	}
@@ -97,15 +98,15 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 				f.area, l.units.Area(), r.Stage, l.units.Length(), r.Depth, l.units.Length(),
 				wet.TopWidth, l.units.Length(), wet.WettedPerimeter, l.units.Length())
 			printWarnings(w, l.warnings)
-			fmt.Fprintln(w, "caution: "+survey.Caution)
+			fmt.Fprintln(w, "caution: "+rating.Caution)
 			return nil
 		}
 		obj = map[string]any{
-			"section": l.source, "units": survey.UnitNames(l.units), "area": survey.Float(f.area),
-			"stage": survey.Float(r.Stage), "depth": survey.Float(r.Depth),
-			"top_width": survey.Float(wet.TopWidth), "wetted_perimeter": survey.Float(wet.WettedPerimeter),
-			"hydraulic_radius": survey.Float(wet.HydraulicRadius), "full": wet.Full,
-			"warnings": nonNil(l.warnings), "caution": survey.Caution,
+			"section": l.source, "units": results.UnitNames(l.units), "area": results.Float(f.area),
+			"stage": results.Float(r.Stage), "depth": results.Float(r.Depth),
+			"top_width": results.Float(wet.TopWidth), "wetted_perimeter": results.Float(wet.WettedPerimeter),
+			"hydraulic_radius": results.Float(wet.HydraulicRadius), "full": wet.Full,
+			"warnings": nonNil(l.warnings), "caution": rating.Caution,
 		}
 	default:
 		qc, err := rating.CriticalDischarge(l.geom, f.stage, opt)
@@ -127,13 +128,13 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 				fmt.Fprintf(w, "uniform flow at slope %g carries %.4g %s\n", f.slope, uniform, l.units.Discharge())
 			}
 			printWarnings(w, l.warnings)
-			fmt.Fprintln(w, "caution: "+survey.Caution)
+			fmt.Fprintln(w, "caution: "+rating.Caution)
 			return nil
 		}
 		obj = map[string]any{
-			"section": l.source, "units": survey.UnitNames(l.units), "stage": survey.Float(f.stage),
-			"critical_discharge": survey.Float(qc), "slope": nullIfZero(f.slope), "uniform_discharge": survey.Float(uniform),
-			"warnings": nonNil(l.warnings), "caution": survey.Caution,
+			"section": l.source, "units": results.UnitNames(l.units), "stage": results.Float(f.stage),
+			"critical_discharge": results.Float(qc), "slope": nullIfZero(f.slope), "uniform_discharge": results.Float(uniform),
+			"warnings": nonNil(l.warnings), "caution": rating.Caution,
 		}
 	}
 	write := text
@@ -147,10 +148,10 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 	if f.output == "" {
 		return write(e.stdout)
 	}
-	if err := survey.WriteFile(f.output, l.inputs, write); err != nil {
+	if err := output.WriteFile(f.output, l.inputs, write); err != nil {
 		return err
 	}
-	fmt.Fprintf(e.stderr, "wrote %s\ncaution: %s\n", f.output, survey.Caution)
+	fmt.Fprintf(e.stderr, "wrote %s\ncaution: %s\n", f.output, rating.Caution)
 	return nil
 }
 
@@ -161,11 +162,11 @@ func nonNil(s []string) []string {
 	return s
 }
 
-func nullIfZero(v float64) survey.Float {
+func nullIfZero(v float64) results.Float {
 	if v == 0 {
-		return survey.Float(math.NaN())
+		return results.Float(math.NaN())
 	}
-	return survey.Float(v)
+	return results.Float(v)
 }
 
 // energyExtremum says whether specific energy has a minimum or a maximum
@@ -181,58 +182,58 @@ func energyExtremum(c rating.CriticalRoot) string {
 // contract: normal_stage, normal_depth, critical_stages, froude, regime.
 func solutionJSON(s rating.Solution) any {
 	type normal struct {
-		Stage        survey.Float `json:"stage"`
-		Depth        survey.Float `json:"depth"`
-		Branch       string       `json:"branch"`
-		Discharge    survey.Float `json:"discharge"`
-		Area         survey.Float `json:"area"`
-		TopWidth     survey.Float `json:"top_width"`
-		MeanVelocity survey.Float `json:"mean_velocity"`
-		Froude       survey.Float `json:"froude"`
-		Regime       *string      `json:"regime"`
-		Full         bool         `json:"full"`
-		Jump         bool         `json:"jump"`
+		Stage        results.Float `json:"stage"`
+		Depth        results.Float `json:"depth"`
+		Branch       string        `json:"branch"`
+		Discharge    results.Float `json:"discharge"`
+		Area         results.Float `json:"area"`
+		TopWidth     results.Float `json:"top_width"`
+		MeanVelocity results.Float `json:"mean_velocity"`
+		Froude       results.Float `json:"froude"`
+		Regime       *string       `json:"regime"`
+		Full         bool          `json:"full"`
+		Jump         bool          `json:"jump"`
 	}
 	type critical struct {
-		Stage          survey.Float `json:"stage"`
-		Depth          survey.Float `json:"depth"`
-		Alpha          survey.Float `json:"alpha"`
-		SpecificEnergy survey.Float `json:"specific_energy"`
-		Energy         string       `json:"specific_energy_extremum"`
-		Jump           bool         `json:"jump"`
+		Stage          results.Float `json:"stage"`
+		Depth          results.Float `json:"depth"`
+		Alpha          results.Float `json:"alpha"`
+		SpecificEnergy results.Float `json:"specific_energy"`
+		Energy         string        `json:"specific_energy_extremum"`
+		Jump           bool          `json:"jump"`
 	}
 	out := struct {
-		NormalStage    survey.Float      `json:"normal_stage"`
-		NormalDepth    survey.Float      `json:"normal_depth"`
-		CriticalStages []survey.Float    `json:"critical_stages"`
-		CriticalDepths []survey.Float    `json:"critical_depths"`
-		Froude         survey.Float      `json:"froude"`
+		NormalStage    results.Float     `json:"normal_stage"`
+		NormalDepth    results.Float     `json:"normal_depth"`
+		CriticalStages []results.Float   `json:"critical_stages"`
+		CriticalDepths []results.Float   `json:"critical_depths"`
+		Froude         results.Float     `json:"froude"`
 		Regime         *string           `json:"regime"`
 		Section        string            `json:"section"`
 		Units          map[string]string `json:"units"`
-		Discharge      survey.Float      `json:"discharge"`
-		Slope          survey.Float      `json:"slope"`
+		Discharge      results.Float     `json:"discharge"`
+		Slope          results.Float     `json:"slope"`
 		Composite      string            `json:"composite_roughness"`
 		NormalStages   []normal          `json:"normal_stages"`
 		Critical       []critical        `json:"critical"`
-		MinEnergyStage survey.Float      `json:"min_specific_energy_stage"`
-		MinEnergy      survey.Float      `json:"min_specific_energy"`
+		MinEnergyStage results.Float     `json:"min_specific_energy_stage"`
+		MinEnergy      results.Float     `json:"min_specific_energy"`
 		ClosedConduit  bool              `json:"closed_conduit"`
-		FullDischarge  survey.Float      `json:"full_discharge"`
-		PeakDischarge  survey.Float      `json:"peak_discharge"`
-		PeakStage      survey.Float      `json:"peak_discharge_stage"`
+		FullDischarge  results.Float     `json:"full_discharge"`
+		PeakDischarge  results.Float     `json:"peak_discharge"`
+		PeakStage      results.Float     `json:"peak_discharge_stage"`
 		Warnings       []string          `json:"warnings"`
 		Caution        string            `json:"caution"`
 	}{
-		NormalStage: survey.Float(math.NaN()), NormalDepth: survey.Float(math.NaN()), Froude: survey.Float(math.NaN()),
-		CriticalStages: []survey.Float{}, CriticalDepths: []survey.Float{},
-		Section: s.Name, Units: survey.UnitNames(s.Units), Discharge: survey.Float(s.Discharge),
+		NormalStage: results.Float(math.NaN()), NormalDepth: results.Float(math.NaN()), Froude: results.Float(math.NaN()),
+		CriticalStages: []results.Float{}, CriticalDepths: []results.Float{},
+		Section: s.Name, Units: results.UnitNames(s.Units), Discharge: results.Float(s.Discharge),
 		Slope: nullIfZero(s.Slope), Composite: s.Composite.String(),
 		NormalStages: []normal{}, Critical: []critical{},
-		MinEnergyStage: survey.Float(s.MinEnergy.Stage), MinEnergy: survey.Float(s.MinEnergy.Energy),
-		ClosedConduit: s.Closed, FullDischarge: survey.Float(s.FullDischarge),
-		PeakDischarge: survey.Float(s.PeakDischarge), PeakStage: survey.Float(s.PeakStage),
-		Warnings: nonNil(s.Warnings), Caution: survey.Caution,
+		MinEnergyStage: results.Float(s.MinEnergy.Stage), MinEnergy: results.Float(s.MinEnergy.Energy),
+		ClosedConduit: s.Closed, FullDischarge: results.Float(s.FullDischarge),
+		PeakDischarge: results.Float(s.PeakDischarge), PeakStage: results.Float(s.PeakStage),
+		Warnings: nonNil(s.Warnings), Caution: rating.Caution,
 	}
 	for i, n := range s.Normal {
 		var regime *string
@@ -241,21 +242,21 @@ func solutionJSON(s rating.Solution) any {
 			regime = &r
 		}
 		out.NormalStages = append(out.NormalStages, normal{
-			Stage: survey.Float(n.Stage), Depth: survey.Float(n.Depth), Branch: n.Branch(),
-			Discharge: survey.Float(n.Row.Discharge), Area: survey.Float(n.Row.Area), TopWidth: survey.Float(n.Row.TopWidth),
-			MeanVelocity: survey.Float(n.Row.MeanVelocity), Froude: survey.Float(n.Row.Froude), Regime: regime, Full: n.Row.Full,
+			Stage: results.Float(n.Stage), Depth: results.Float(n.Depth), Branch: n.Branch(),
+			Discharge: results.Float(n.Row.Discharge), Area: results.Float(n.Row.Area), TopWidth: results.Float(n.Row.TopWidth),
+			MeanVelocity: results.Float(n.Row.MeanVelocity), Froude: results.Float(n.Row.Froude), Regime: regime, Full: n.Row.Full,
 			Jump: n.Jump,
 		})
 		if i == 0 {
-			out.NormalStage, out.NormalDepth, out.Froude, out.Regime = survey.Float(n.Stage), survey.Float(n.Depth), survey.Float(n.Row.Froude), regime
+			out.NormalStage, out.NormalDepth, out.Froude, out.Regime = results.Float(n.Stage), results.Float(n.Depth), results.Float(n.Row.Froude), regime
 		}
 	}
 	for _, c := range s.Critical {
-		out.CriticalStages = append(out.CriticalStages, survey.Float(c.Stage))
-		out.CriticalDepths = append(out.CriticalDepths, survey.Float(c.Depth))
+		out.CriticalStages = append(out.CriticalStages, results.Float(c.Stage))
+		out.CriticalDepths = append(out.CriticalDepths, results.Float(c.Depth))
 		out.Critical = append(out.Critical, critical{
-			Stage: survey.Float(c.Stage), Depth: survey.Float(c.Depth), Alpha: survey.Float(c.Alpha),
-			SpecificEnergy: survey.Float(c.Energy), Energy: energyExtremum(c), Jump: c.Jump,
+			Stage: results.Float(c.Stage), Depth: results.Float(c.Depth), Alpha: results.Float(c.Alpha),
+			SpecificEnergy: results.Float(c.Energy), Energy: energyExtremum(c), Jump: c.Jump,
 		})
 	}
 	return out
@@ -298,7 +299,7 @@ func writeSolutionText(w io.Writer, s rating.Solution) error {
 			s.Slope, s.FullDischarge, u.Discharge(), s.PeakDischarge, u.Discharge(), s.PeakStage, L, (s.PeakStage-s.Bottom)/(s.Top-s.Bottom))
 	}
 	printWarnings(w, s.Warnings)
-	fmt.Fprintln(w, "caution: "+survey.Caution)
+	fmt.Fprintln(w, "caution: "+rating.Caution)
 	return nil
 }
 

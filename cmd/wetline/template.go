@@ -7,6 +7,7 @@ import (
 
 	"wetline/rating"
 	"wetline/survey"
+	"wetline/survey/output"
 )
 
 const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us] [--survey SURVEY ...]"
@@ -51,7 +52,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	if len(opt.Surveys) > survey.MaxTemplateSections {
 		return usagef("template: %d surveys: at most %d", len(opt.Surveys), survey.MaxTemplateSections)
 	}
-	if err := survey.WriteFile(*out, *surveys, func(w io.Writer) error { return survey.WriteTemplate(w, opt) }); err != nil {
+	if err := output.WriteFile(*out, *surveys, func(w io.Writer) error { return survey.WriteTemplate(w, opt) }); err != nil {
 		return err
 	}
 	fmt.Fprintf(e.stderr, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s and %s; units %s, %s\n",

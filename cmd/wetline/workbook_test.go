@@ -13,6 +13,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"wetline/rating"
 	"wetline/survey"
 )
 
@@ -252,7 +253,7 @@ func TestRateWorkbookSummary(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(stderr, "wrote "+out) || !strings.Contains(stderr, survey.Caution) {
+	if !strings.Contains(stderr, "wrote "+out) || !strings.Contains(stderr, rating.Caution) {
 		t.Errorf("console summary %q", stderr)
 	}
 	rows := wbSheetRows(t, out, "summary")
@@ -267,7 +268,7 @@ func TestRateWorkbookSummary(t *testing.T) {
 		"n, subsection 1 (left overbank, stations 0 to 46)|0.05",
 		"n, subsection 2 (channel, stations 46 to 65.5)|0.035",
 		"warning|at some stages the water stands in 2 separate pools",
-		"caution|" + survey.Caution,
+		"caution|" + rating.Caution,
 	} {
 		if !strings.Contains(text, want) {
 			t.Errorf("summary lacks %q:\n%s", want, text)

@@ -1,4 +1,4 @@
-package survey
+package results
 
 import (
 	"bufio"
@@ -8,6 +8,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
@@ -150,7 +151,7 @@ func WriteGaugingReportJSON(w io.Writer, r *gauged.Report) error {
 		Caution       string            `json:"caution"`
 	}{Site: r.Site, Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
-		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: r.Warnings, Caution: Caution}
+		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: r.Warnings, Caution: rating.Caution}
 	if out.Warnings == nil {
 		out.Warnings = []string{}
 	}
@@ -305,7 +306,7 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 			p("warning: %s\n", s)
 		}
 	}
-	p("\ncaution: %s\n", Caution)
+	p("\ncaution: %s\n", rating.Caution)
 	return bw.Flush()
 }
 

@@ -1,4 +1,4 @@
-package survey_test
+package results_test
 
 import (
 	"archive/zip"
@@ -19,7 +19,9 @@ import (
 
 	"wetline/rating"
 	"wetline/subdivide"
-	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // largeRows is the size of the large-table checks.
@@ -104,10 +106,10 @@ func TestLargeRatingSheetBoundedMemory(t *testing.T) {
 	path := filepath.Join(t.TempDir(), "large.xlsx")
 	var err error
 	peak := peakHeap(func() {
-		err = survey.WriteFile(path, nil, func(w io.Writer) error {
-			b := survey.NewBook()
+		err = output.WriteFile(path, nil, func(w io.Writer) error {
+			b := workbook.NewBook()
 			defer b.Close()
-			if err := survey.WriteRatingSheet(b, "rating", table); err != nil {
+			if err := results.WriteRatingSheet(b, "rating", table); err != nil {
 				return err
 			}
 			return b.Write(w)
@@ -158,7 +160,7 @@ func BenchmarkRatingWorkbook100k(b *testing.B) {
 	var peak uint64
 	for b.Loop() {
 		p := peakHeap(func() {
-			if err := survey.WriteRatingWorkbook(io.Discard, survey.RatingWorkbook{Table: table}); err != nil {
+			if err := results.WriteRatingWorkbook(io.Discard, results.RatingWorkbook{Table: table}); err != nil {
 				b.Fatal(err)
 			}
 		})
@@ -174,9 +176,9 @@ func BenchmarkRatingSheet100k(b *testing.B) {
 	var peak uint64
 	for b.Loop() {
 		p := peakHeap(func() {
-			bk := survey.NewBook()
+			bk := workbook.NewBook()
 			defer bk.Close()
-			if err := survey.WriteRatingSheet(bk, "rating", table); err != nil {
+			if err := results.WriteRatingSheet(bk, "rating", table); err != nil {
 				b.Fatal(err)
 			}
 			if err := bk.Write(io.Discard); err != nil {

@@ -1,13 +1,10 @@
-package survey
+package results
 
 import (
 	"encoding/csv"
-	"fmt"
 	"io"
 	"strconv"
 	"strings"
-
-	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
 )
@@ -91,47 +88,4 @@ func (l *LongRatingWriter) Write(section string, t rating.Table) error {
 func (l *LongRatingWriter) Flush() error {
 	l.cw.Flush()
 	return l.cw.Error()
-}
-
-// SectionSheets lists the sheets of a workbook that hold a survey: those
-// whose header row has station and elevation columns, in workbook order.
-func SectionSheets(path string) ([]string, error) {
-	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
-	if err != nil {
-		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
-	}
-	defer f.Close()
-	var out []string
-	for _, sheet := range f.GetSheetList() {
-		ok, err := hasSurveyHeader(f, sheet)
-		if err != nil {
-			return nil, &ParseError{File: path, Sheet: sheet, Err: err}
-		}
-		if ok {
-			out = append(out, sheet)
-		}
-	}
-	return out, nil
-}
-
-// hasSurveyHeader reports whether the first non-blank row of a sheet names
-// station and elevation columns.
-func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
-	rows, err := f.Rows(sheet)
-	if err != nil {
-		return false, err
-	}
-	defer rows.Close()
-	for rows.Next() {
-		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
-		if err != nil {
-			return false, err
-		}
-		if blank(rec) {
-			continue
-		}
-		t := &Table{Header: trimAll(rec)}
-		return t.Column(ColStation) >= 0 && t.Column(ColElevation) >= 0, nil
-	}
-	return false, rows.Error()
 }

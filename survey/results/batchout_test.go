@@ -1,12 +1,9 @@
-package survey
+package results
 
 import (
 	"math"
-	"path/filepath"
 	"strings"
 	"testing"
-
-	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
 	"wetline/subdivide"
@@ -62,28 +59,5 @@ func TestLongRatingWriter(t *testing.T) {
 	}
 	if n := strings.Count(lines[0], ","); n != len(RatingColumns)+len(ExtraRatingColumns) {
 		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns)+len(ExtraRatingColumns))
-	}
-}
-
-func TestSectionSheets(t *testing.T) {
-	f := excelize.NewFile()
-	f.SetSheetName("Sheet1", "XS-1")
-	f.SetSheetRow("XS-1", "A1", &[]any{"Station (m)", "Elevation (m)", "n"})
-	f.SetSheetRow("XS-1", "A2", &[]any{0, 1, 0.03})
-	f.NewSheet("notes")
-	f.SetSheetRow("notes", "A1", &[]any{"what", "who"})
-	f.NewSheet("XS-2")
-	f.SetSheetRow("XS-2", "B3", &[]any{"station", "elevation"})
-	f.NewSheet("empty")
-	path := filepath.Join(t.TempDir(), "reach.xlsx")
-	if err := f.SaveAs(path); err != nil {
-		t.Fatal(err)
-	}
-	got, err := SectionSheets(path)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if strings.Join(got, ",") != "XS-1,XS-2" {
-		t.Errorf("section sheets %q, want XS-1, XS-2", got)
 	}
 }

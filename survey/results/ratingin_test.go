@@ -1,4 +1,4 @@
-package survey_test
+package results_test
 
 import (
 	"bytes"
@@ -10,6 +10,7 @@ import (
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/results"
 )
 
 // TestRatingRoundTrip writes a computed table with WriteRatingCSV and
@@ -27,7 +28,7 @@ func TestRatingRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if err := survey.WriteRatingCSV(&buf, want); err != nil {
+	if err := results.WriteRatingCSV(&buf, want); err != nil {
 		t.Fatal(err)
 	}
 	got, err := survey.ParseRatingCSV(&buf, "box-rating.csv", rating.SI)

@@ -1,4 +1,4 @@
-package survey_test
+package results_test
 
 import (
 	"archive/zip"
@@ -22,6 +22,9 @@ import (
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // sameValue is the relative tolerance between a number written to a
@@ -45,7 +48,7 @@ func wbNear(a, b, rel float64) bool {
 // on every hundredth.
 func wbTallow(t testing.TB) (coarse, fine rating.Table) {
 	t.Helper()
-	sv, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
+	sv, err := survey.ReadSection("../../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -58,7 +61,7 @@ func wbTallow(t testing.TB) (coarse, fine rating.Table) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	stages, err := survey.LookupStages(p.Bottom(), p.Top())
+	stages, err := results.LookupStages(p.Bottom(), p.Top())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -76,10 +79,10 @@ func TestSig3Decimals(t *testing.T) {
 	}{
 		// The rule stated on FormatSig3.
 		{0, 0}, {1234, 0}, {999.9, 0}, {123.4, 0}, {12.34, 1}, {-12.34, 1}, {1.234, 2},
-		{0.1234, 3}, {0.01234, 4}, {0.001234, 5}, {0.0000001, survey.MaxSig3Decimals},
+		{0.1234, 3}, {0.01234, 4}, {0.001234, 5}, {0.0000001, workbook.MaxSig3Decimals},
 		{math.NaN(), 0}, {math.Inf(1), 0},
 	} {
-		if got := survey.Sig3Decimals(tc.v); got != tc.want {
+		if got := workbook.Sig3Decimals(tc.v); got != tc.want {
 			t.Errorf("Sig3Decimals(%g) = %d, want %d", tc.v, got, tc.want)
 		}
 	}
@@ -100,7 +103,7 @@ func TestLookupStages(t *testing.T) {
 		{0, 1e6, 0, 0, 0, true},
 		{math.NaN(), 1, 0, 0, 0, true},
 	} {
-		got, err := survey.LookupStages(tc.bottom, tc.top)
+		got, err := results.LookupStages(tc.bottom, tc.top)
 		if tc.wantErr {
 			if err == nil {
 				t.Errorf("%g..%g: no error", tc.bottom, tc.top)
@@ -129,10 +132,10 @@ func wbPNG(w, h int) []byte {
 	return buf.Bytes()
 }
 
-func writeResults(t *testing.T, rw survey.RatingWorkbook) *excelize.File {
+func writeResults(t *testing.T, rw results.RatingWorkbook) *excelize.File {
 	t.Helper()
 	var buf bytes.Buffer
-	if err := survey.WriteRatingWorkbook(&buf, rw); err != nil {
+	if err := results.WriteRatingWorkbook(&buf, rw); err != nil {
 		t.Fatal(err)
 	}
 	return openWritten(t, &buf)
@@ -156,12 +159,12 @@ func numFmt(t *testing.T, f *excelize.File, sheet, cell string) string {
 
 func TestRatingWorkbook(t *testing.T) {
 	coarse, fine := wbTallow(t)
-	sv, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
+	sv, err := survey.ReadSection("../../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	pics := []survey.Picture{{Name: "rating curve", PNG: wbPNG(1600, 1000)}, {Name: "section", PNG: wbPNG(200, 100)}}
-	f := writeResults(t, survey.RatingWorkbook{
+	pics := []workbook.Picture{{Name: "rating curve", PNG: wbPNG(1600, 1000)}, {Name: "section", PNG: wbPNG(200, 100)}}
+	f := writeResults(t, results.RatingWorkbook{
 		Table: coarse, Lookup: fine, Source: "tallow-xs1.csv", Version: "9.8.7",
 		Warnings: []string{"a warning for the reader"}, Pictures: pics, Survey: sv,
 	})
@@ -188,7 +191,7 @@ func TestRatingWorkbook(t *testing.T) {
 		"friction slope":             "0.0012|m/m",
 		"main channel between banks": "stations 46 to 65.5|m",
 		"warning":                    "a warning for the reader|",
-		"caution":                    survey.Caution + "|",
+		"caution":                    rating.Caution + "|",
 		"n, subsection 1 (left overbank, stations 0 to 18)": "0.045|",
 		"n, subsection 3 (channel, stations 46 to 65.5)":    "0.035|",
 	} {
@@ -232,7 +235,7 @@ func TestRatingWorkbook(t *testing.T) {
 	}
 	for i, r := range coarse.Rows {
 		cell := fmt.Sprintf("H%d", i+2)
-		want := strings.TrimSuffix("0."+strings.Repeat("0", survey.Sig3Decimals(r.Discharge)), ".")
+		want := strings.TrimSuffix("0."+strings.Repeat("0", workbook.Sig3Decimals(r.Discharge)), ".")
 		if got := numFmt(t, f, "rating", cell); got != want {
 			t.Errorf("discharge %g at %s: format %q, want %q", r.Discharge, cell, got, want)
 		}
@@ -256,7 +259,7 @@ func TestRatingWorkbook(t *testing.T) {
 			t.Errorf("%s: no print titles", sheet)
 		}
 		hf, err := f.GetHeaderFooter(sheet)
-		if err != nil || !strings.Contains(hf.OddHeader, "wetline rating: tallow-xs1") || !strings.HasSuffix(hf.OddFooter, survey.Caution) {
+		if err != nil || !strings.Contains(hf.OddHeader, "wetline rating: tallow-xs1") || !strings.HasSuffix(hf.OddFooter, rating.Caution) {
 			t.Errorf("%s: printed header %q, footer %q (%v)", sheet, hf.OddHeader, hf.OddFooter, err)
 		}
 	}
@@ -273,7 +276,7 @@ func TestRatingWorkbook(t *testing.T) {
 		if err != nil {
 			t.Fatalf("lookup %s: %q", cell, v)
 		}
-		want := strings.TrimSuffix("0."+strings.Repeat("0", survey.Sig3Decimals(q)), ".")
+		want := strings.TrimSuffix("0."+strings.Repeat("0", workbook.Sig3Decimals(q)), ".")
 		if got := numFmt(t, f, "lookup", cell); got != want {
 			t.Errorf("lookup %s = %g: format %q, want %q", cell, q, got, want)
 		}
@@ -333,7 +336,7 @@ func TestRatingWorkbook(t *testing.T) {
 
 func TestRatingWorkbookMinimal(t *testing.T) {
 	coarse, _ := wbTallow(t)
-	f := writeResults(t, survey.RatingWorkbook{Table: coarse})
+	f := writeResults(t, results.RatingWorkbook{Table: coarse})
 	if got, want := f.GetSheetList(), []string{"summary", "rating", "subsections"}; !slices.Equal(got, want) {
 		t.Errorf("sheets %v, want %v", got, want)
 	}
@@ -341,8 +344,8 @@ func TestRatingWorkbookMinimal(t *testing.T) {
 
 func TestRatingWorkbookBadPicture(t *testing.T) {
 	coarse, _ := wbTallow(t)
-	err := survey.WriteRatingWorkbook(&bytes.Buffer{}, survey.RatingWorkbook{Table: coarse,
-		Pictures: []survey.Picture{{Name: "broken", PNG: []byte("GIF89a")}}})
+	err := results.WriteRatingWorkbook(&bytes.Buffer{}, results.RatingWorkbook{Table: coarse,
+		Pictures: []workbook.Picture{{Name: "broken", PNG: []byte("GIF89a")}}})
 	if err == nil || !strings.Contains(err.Error(), `"broken"`) {
 		t.Errorf("error %v, want one naming the picture", err)
 	}
@@ -387,8 +390,8 @@ func TestLookupGolden(t *testing.T) {
 		{"coarse", coarse, sameStage},
 	} {
 		path := filepath.Join(dir, tc.name+".xlsx")
-		if err := survey.WriteFile(path, nil, func(w io.Writer) error {
-			return survey.WriteRatingWorkbook(w, survey.RatingWorkbook{Table: tc.table, Lookup: fine})
+		if err := output.WriteFile(path, nil, func(w io.Writer) error {
+			return results.WriteRatingWorkbook(w, results.RatingWorkbook{Table: tc.table, Lookup: fine})
 		}); err != nil {
 			t.Fatal(err)
 		}
@@ -433,7 +436,7 @@ func TestLookupGolden(t *testing.T) {
 						t.Errorf("%s: lookup %.2f = %g, rating sheet %g", tc.name, float64(k)/100, got, want)
 					}
 				}
-				fmt.Fprintf(&shown, " %8.*f", survey.Sig3Decimals(got), got)
+				fmt.Fprintf(&shown, " %8.*f", workbook.Sig3Decimals(got), got)
 			}
 			shown.WriteByte('\n')
 		}
@@ -465,7 +468,7 @@ func TestLookupGolden(t *testing.T) {
 func TestStreamedColumnsAscending(t *testing.T) {
 	coarse, fine := wbTallow(t)
 	var buf bytes.Buffer
-	if err := survey.WriteRatingWorkbook(&buf, survey.RatingWorkbook{Table: coarse, Lookup: fine}); err != nil {
+	if err := results.WriteRatingWorkbook(&buf, results.RatingWorkbook{Table: coarse, Lookup: fine}); err != nil {
 		t.Fatal(err)
 	}
 	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
@@ -509,7 +512,7 @@ func TestStreamedColumnsAscending(t *testing.T) {
 func TestLongTitle(t *testing.T) {
 	coarse, _ := wbTallow(t)
 	coarse.Name = strings.Repeat("Mill & Tallow ", 40)
-	f := writeResults(t, survey.RatingWorkbook{Table: coarse})
+	f := writeResults(t, results.RatingWorkbook{Table: coarse})
 	hf, err := f.GetHeaderFooter("rating")
 	if err != nil || !strings.Contains(hf.OddHeader, "Mill && Tallow") || !strings.Contains(hf.OddHeader, "…") {
 		t.Errorf("header %q (%v)", hf.OddHeader, err)

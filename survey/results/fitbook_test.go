@@ -1,4 +1,4 @@
-package survey_test
+package results_test
 
 import (
 	"bytes"
@@ -13,7 +13,8 @@ import (
 	"wetline/rating"
 	"wetline/rating/gauged"
 	"wetline/rating/reach"
-	"wetline/survey"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // openWritten opens a workbook written to a buffer, with raw cell values.
@@ -48,15 +49,15 @@ func cellFill(t *testing.T, f *excelize.File, sheet, cell string) string {
 // keep the shading of every other row; a stage not on a hundredth is
 // ignored and a hundredth without a cell is blank.
 func TestWriteLookupCellsMarked(t *testing.T) {
-	var cells []survey.LookupCell
+	var cells []results.LookupCell
 	for k := 95; k <= 123; k++ {
 		h := float64(k) / 100
-		cells = append(cells, survey.LookupCell{Stage: h, Discharge: float64(k), Marked: k < 97 || k > 120})
+		cells = append(cells, results.LookupCell{Stage: h, Discharge: float64(k), Marked: k < 97 || k > 120})
 	}
-	cells = append(cells, survey.LookupCell{Stage: 1.234, Discharge: -1, Marked: true}) // not on a hundredth
-	b := survey.NewBook()
+	cells = append(cells, results.LookupCell{Stage: 1.234, Discharge: -1, Marked: true}) // not on a hundredth
+	b := workbook.NewBook()
 	defer b.Close()
-	if err := survey.WriteLookupCells(b, "lookup", rating.SI, cells); err != nil {
+	if err := results.WriteLookupCells(b, "lookup", rating.SI, cells); err != nil {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
@@ -93,10 +94,10 @@ func TestWriteLookupCellsMarked(t *testing.T) {
 			banded := (k/10)%2 != 0 // every other row, as WriteLookupSheet
 			switch {
 			case k < 97 || k > 120:
-				if fill != survey.MarkFill {
+				if fill != workbook.MarkFill {
 					t.Errorf("stage %d/100: fill %q, want the marked fill", k, fill)
 				}
-			case banded && (fill == "" || fill == survey.MarkFill), !banded && fill != "":
+			case banded && (fill == "" || fill == workbook.MarkFill), !banded && fill != "":
 				t.Errorf("stage %d/100: fill %q (banded row %v)", k, fill, banded)
 			}
 		}
@@ -117,16 +118,16 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	cells, err := survey.FitLookupCells(rep, nil)
+	cells, err := results.FitLookupCells(rep, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if err := survey.WriteFitWorkbook(&buf, survey.FitWorkbook{Report: rep, Lookup: cells, Version: "test"}); err != nil {
+	if err := results.WriteFitWorkbook(&buf, results.FitWorkbook{Report: rep, Lookup: cells, Version: "test"}); err != nil {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)
-	want := []string{survey.SheetSummary, survey.SheetGaugings, survey.SheetFitTable, survey.SheetLookup}
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetLookup}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
@@ -146,7 +147,7 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 	if last != 2.0 {
 		t.Errorf("lookup ends at %g, want the highest gauging 2.0", last)
 	}
-	rows, err := f.GetRows(survey.SheetFitTable)
+	rows, err := f.GetRows(results.SheetFitTable)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -158,22 +159,22 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 // A slope-area report without a Monte Carlo analysis or figures: no
 // uncertainty or plots sheet, and the summary says so.
 func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
-	rep := survey.SlopeAreaReport{Result: reach.SlopeArea{
+	rep := results.SlopeAreaReport{Result: reach.SlopeArea{
 		Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 12.5, Fall: 0.2, Length: 100,
 		Sections:   []reach.SectionResult{{ID: "A", WaterSurface: 10.2}, {ID: "B", Distance: 100, WaterSurface: 10}},
 		Subreaches: []reach.Subreach{{From: "A", To: "B", Length: 100, Fall: 0.2, Discharge: 12.5}},
 		Checks:     []reach.Check{{Name: "froude A", Value: 1.2, Limit: 1, Relation: "<", Source: "test"}},
 	}}
 	var buf bytes.Buffer
-	if err := survey.WriteSlopeAreaWorkbook(&buf, rep, nil); err != nil {
+	if err := results.WriteSlopeAreaWorkbook(&buf, rep, nil); err != nil {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)
-	want := []string{survey.SheetSummary, survey.SheetReachInputs, survey.SheetSections, survey.SheetSubreaches, survey.SheetChecks}
+	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubreaches, results.SheetChecks}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
-	rows, _ := f.GetRows(survey.SheetSummary)
+	rows, _ := f.GetRows(results.SheetSummary)
 	items := map[string]string{}
 	for _, r := range rows {
 		if len(r) > 1 {
@@ -181,10 +182,10 @@ func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
 		}
 	}
 	if items["peak discharge"] != "12.5" || items["band"] != "no Monte Carlo analysis was run" ||
-		items["caution"] != survey.Caution || items["indirect estimate"] != survey.IndirectNote || items["quality checks passed"] == "" {
+		items["caution"] != rating.Caution || items["indirect estimate"] != rating.IndirectNote || items["quality checks passed"] == "" {
 		t.Errorf("summary %q", items)
 	}
-	if fill := cellFill(t, f, survey.SheetChecks, "E2"); fill != survey.MarkFill {
+	if fill := cellFill(t, f, results.SheetChecks, "E2"); fill != workbook.MarkFill {
 		t.Errorf("failed check: fill %q, want the marked fill", fill)
 	}
 }

@@ -1,4 +1,4 @@
-package survey
+package results
 
 import (
 	"bufio"
@@ -11,10 +11,6 @@ import (
 
 	"wetline/rating"
 )
-
-// Caution is the short statement every report carries.
-const Caution = "Computed ratings and flood estimates are estimates: verify them against discharge measurements. " +
-	"Local codes, agency standards and licensed professional judgement govern their use for design or flood warning."
 
 // RatingColumns are the leading column names of a rating table, in order.
 // They are a contract with scripts; add columns after them, never between.
@@ -236,7 +232,7 @@ func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
 		Rows     []jsonRow         `json:"rows"`
 		Warnings []string          `json:"warnings"`
 		Caution  string            `json:"caution"`
-	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, warnings, Caution}
+	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, warnings, rating.Caution}
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(out)
@@ -286,6 +282,6 @@ func WriteRatingText(w io.Writer, t rating.Table, warnings []string) error {
 	for _, s := range warnings {
 		fmt.Fprintln(bw, "warning: "+s)
 	}
-	fmt.Fprintln(bw, "caution: "+Caution)
+	fmt.Fprintln(bw, "caution: "+rating.Caution)
 	return bw.Flush()
 }

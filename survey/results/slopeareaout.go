@@ -1,4 +1,4 @@
-package survey
+package results
 
 import (
 	"encoding/json"
@@ -7,7 +7,9 @@ import (
 	"math"
 	"strings"
 	"text/tabwriter"
+	"wetline/rating"
 	"wetline/rating/reach"
+	"wetline/survey"
 )
 
 // SlopeAreaReport is everything a slope-area report says: the reach as
@@ -16,7 +18,7 @@ import (
 type SlopeAreaReport struct {
 	// Reach is the reach table and surveys as read (nil when the sections
 	// were built otherwise).
-	Reach *Reach
+	Reach *survey.Reach
 	// Result is the slope-area (or slope-conveyance) computation.
 	Result reach.SlopeArea
 	// Uncertainty is the Monte Carlo analysis; nil when none was run.
@@ -118,7 +120,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
 		Fall: Float(r.Fall), Length: Float(r.Length), Slope: Float(r.Slope),
 		SubreachMin: Float(r.SubreachMin), SubreachMax: Float(r.SubreachMax), SubreachSpread: Float(r.SubreachSpread),
 		Sections: []jsonSASection{}, Subreaches: []jsonSubreach{}, Checks: []jsonCheck{},
-		Warnings: rep.Warnings, Caution: Caution,
+		Warnings: rep.Warnings, Caution: rating.Caution,
 	}
 	if out.Warnings == nil {
 		out.Warnings = []string{}
@@ -203,7 +205,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 		title = "Single-section slope-conveyance flood peak (weaker method)"
 	}
 	if rep.Reach != nil {
-		title += ": " + (&ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+		title += ": " + (&survey.ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
 	}
 	line("%s", title)
 	if rep.Version != "" {
@@ -313,7 +315,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	}
 	line("")
 	line("Indirect estimates of a flood peak carry large uncertainty: review the marks, the n values and the checks above.")
-	line("Caution: %s", Caution)
+	line("Caution: %s", rating.Caution)
 	_, err := io.WriteString(w, b.String())
 	return err
 }

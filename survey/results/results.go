@@ -1,4 +1,4 @@
-package survey
+package results
 
 import (
 	"errors"
@@ -8,6 +8,8 @@ import (
 
 	"wetline/rating"
 	"wetline/subdivide"
+	"wetline/survey"
+	"wetline/survey/workbook"
 )
 
 // Sheet names of a results workbook, in order.
@@ -37,9 +39,9 @@ type RatingWorkbook struct {
 	// Survey is the survey as read (no points: no survey sheet). Its
 	// sheet has the columns of a field workbook's cross-section sheet, so
 	// ReadSection can read it back from the results workbook.
-	Survey Survey
+	Survey survey.Survey
 	// Pictures are embedded on a plots sheet (none: no sheet).
-	Pictures []Picture
+	Pictures []workbook.Picture
 }
 
 // MaxLookupStages bounds the stages of a lookup table (a tenth as many rows).
@@ -101,7 +103,7 @@ func hundredths(h float64) (int64, bool) {
 // Every table sheet is streamed, so memory stays bounded for any number of
 // rows.
 func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
-	b := NewBook()
+	b := workbook.NewBook()
 	defer b.Close()
 	b.Title = "wetline rating: " + rw.Table.Name
 	if err := writeSummary(b, rw); err != nil {
@@ -119,7 +121,7 @@ func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
 		return err
 	}
 	if len(rw.Survey.Section.Points) > 0 {
-		if err := WriteSurveySheet(b, SheetSurvey, rw.Survey, rw.Table.Units); err != nil {
+		if err := survey.WriteSurveySheet(b, SheetSurvey, rw.Survey, rw.Table.Units); err != nil {
 			return err
 		}
 	}
@@ -133,38 +135,38 @@ func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
 
 // RatingSheetColumns returns the columns of a rating sheet for t: the
 // names of WriteRatingCSV with units and number formats.
-func RatingSheetColumns(t rating.Table) []Column {
+func RatingSheetColumns(t rating.Table) []workbook.Column {
 	u := t.Units
 	L, A, Q := u.Length(), u.Area(), u.Discharge()
-	cols := []Column{
+	cols := []workbook.Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "depth", Unit: L, Format: "0.000"},
-		{Name: "area", Unit: A, Format: FormatSig3},
+		{Name: "area", Unit: A, Format: workbook.FormatSig3},
 		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
 		{Name: "top_width", Unit: L, Format: "0.00"},
 		{Name: "hydraulic_radius", Unit: L, Format: "0.000"},
-		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
-		{Name: "discharge", Unit: Q, Format: FormatSig3},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
+		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "mean_velocity", Unit: u.Velocity(), Format: "0.00"},
 		{Name: "alpha", Format: "0.000"},
 		{Name: "froude", Format: "0.00"},
 	}
 	for i := range t.Subsections {
-		cols = append(cols, Column{Name: SubsectionColumn(t, i), Unit: Q, Format: FormatSig3})
+		cols = append(cols, workbook.Column{Name: SubsectionColumn(t, i), Unit: Q, Format: workbook.FormatSig3})
 	}
 	return append(cols,
-		Column{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
-		Column{Name: "beta", Format: "0.000"},
-		Column{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"})
+		workbook.Column{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
+		workbook.Column{Name: "beta", Format: "0.000"},
+		workbook.Column{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"})
 }
 
 // WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
-func WriteRatingSheet(b *Book, name string, t rating.Table) error {
+func WriteRatingSheet(b *workbook.Book, name string, t rating.Table) error {
 	s, err := b.Table(name, RatingSheetColumns(t))
 	if err != nil {
 		return err
 	}
-	vals := make([]any, 0, len(s.cols))
+	vals := make([]any, 0, len(RatingSheetColumns(t)))
 	for _, r := range t.Rows {
 		vals = vals[:0]
 		for _, v := range rowValues(r) {
@@ -182,7 +184,7 @@ func WriteRatingSheet(b *Book, name string, t rating.Table) error {
 // 2 to 11 the discharge at that stage plus 0.00 to 0.09, every other row
 // shaded for reading across. Rows of t whose stage is not on a hundredth
 // are ignored.
-func WriteLookupSheet(b *Book, name string, t rating.Table) error {
+func WriteLookupSheet(b *workbook.Book, name string, t rating.Table) error {
 	cells := make([]LookupCell, len(t.Rows))
 	for i, r := range t.Rows {
 		cells[i] = LookupCell{Stage: r.Stage, Discharge: r.Discharge}
@@ -203,11 +205,11 @@ type LookupCell struct {
 // (Book.MarkStyle) whatever their row. A hundredth without a cell is
 // blank; cells whose stage is not on a hundredth are ignored. u gives the
 // stage unit.
-func WriteLookupCells(b *Book, name string, u rating.Units, cells []LookupCell) error {
+func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []LookupCell) error {
 	L := u.Length()
-	cols := []Column{{Name: "stage", Unit: L, Format: "0.0"}}
+	cols := []workbook.Column{{Name: "stage", Unit: L, Format: "0.0"}}
 	for j := range 10 {
-		cols = append(cols, Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: FormatSig3, Width: 10})
+		cols = append(cols, workbook.Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: workbook.FormatSig3, Width: 10})
 	}
 	q := map[int64]LookupCell{}
 	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
@@ -233,13 +235,13 @@ func WriteLookupCells(b *Book, name string, u rating.Units, cells []LookupCell) 
 			}
 			for j := int64(0); j < 10; j++ {
 				c, ok := q[base+j]
-				format := decimalsFormat(Sig3Decimals(c.Discharge))
+				format := workbook.DecimalsFormat(workbook.Sig3Decimals(c.Discharge))
 				if ok && c.Marked {
 					id, err := b.MarkStyle(format)
 					if err != nil {
 						return err
 					}
-					vals[j+1] = Styled{id, c.Discharge}
+					vals[j+1] = workbook.Styled{Style: id, Value: c.Discharge}
 					continue
 				}
 				if err := lookupCell(b, &vals[j+1], c.Discharge, ok, format, band); err != nil {
@@ -256,7 +258,7 @@ func WriteLookupCells(b *Book, name string, u rating.Units, cells []LookupCell) 
 
 // lookupCell sets *dst to a lookup value (ok) or a blank, on the band
 // colour when band is set.
-func lookupCell(b *Book, dst *any, v float64, ok bool, format string, band bool) error {
+func lookupCell(b *workbook.Book, dst *any, v float64, ok bool, format string, band bool) error {
 	if !band {
 		*dst = nil
 		if ok {
@@ -269,9 +271,9 @@ func lookupCell(b *Book, dst *any, v float64, ok bool, format string, band bool)
 		return err
 	}
 	if ok {
-		*dst = Styled{id, v}
+		*dst = workbook.Styled{Style: id, Value: v}
 	} else {
-		*dst = Styled{id, nil}
+		*dst = workbook.Styled{Style: id, Value: nil}
 	}
 	return nil
 }
@@ -285,21 +287,21 @@ func floorDiv(a, b int64) int64 {
 }
 
 // WriteSubsectionSheet writes one row per stage and subsection.
-func WriteSubsectionSheet(b *Book, name string, t rating.Table) error {
+func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 	u := t.Units
 	L := u.Length()
-	s, err := b.Table(name, []Column{
+	s, err := b.Table(name, []workbook.Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "subsection", Format: "0"},
 		{Name: "region", Width: 15},
 		{Name: "from_station", Unit: L, Format: "0.00"},
 		{Name: "to_station", Unit: L, Format: "0.00"},
 		{Name: "n", Format: "0.000"},
-		{Name: "area", Unit: u.Area(), Format: FormatSig3},
+		{Name: "area", Unit: u.Area(), Format: workbook.FormatSig3},
 		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
 		{Name: "top_width", Unit: L, Format: "0.00"},
-		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
-		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
 	})
 	if err != nil {
@@ -316,29 +318,8 @@ func WriteSubsectionSheet(b *Book, name string, t rating.Table) error {
 	return s.Flush()
 }
 
-// WriteSurveySheet writes a survey as a table sheet with the columns of a
-// field workbook's cross-section sheet (see WriteTemplate), readable by
-// ReadSection.
-func WriteSurveySheet(b *Book, name string, sv Survey, u rating.Units) error {
-	cols := sectionColumns(u)
-	out := make([]Column, len(cols))
-	for i, c := range cols {
-		out[i] = c.Column
-	}
-	s, err := b.Table(name, out)
-	if err != nil {
-		return err
-	}
-	for _, r := range surveyRows(sv) {
-		if err := s.Row(r...); err != nil {
-			return err
-		}
-	}
-	return s.Flush()
-}
-
 // SummaryColumns are the columns of a summary sheet: item, value, unit.
-var SummaryColumns = []Column{
+var SummaryColumns = []workbook.Column{
 	{Name: "item", Width: 34},
 	{Name: "value", Width: 70},
 	{Name: "unit", Width: 10},
@@ -354,9 +335,9 @@ type SummaryItem struct {
 
 // WriteSummarySheet writes a summary sheet (SummaryColumns): the items in
 // order, then one row per warning ("warnings: none" when there are none),
-// then the caution (Caution), which every report carries. Items whose
+// then the caution (rating.Caution), which every report carries. Items whose
 // value is "" or nil are left out.
-func WriteSummarySheet(b *Book, name string, items []SummaryItem, warnings []string) error {
+func WriteSummarySheet(b *workbook.Book, name string, items []SummaryItem, warnings []string) error {
 	s, err := b.Table(name, SummaryColumns)
 	if err != nil {
 		return err
@@ -375,9 +356,9 @@ func WriteSummarySheet(b *Book, name string, items []SummaryItem, warnings []str
 		}
 		v := it.Value
 		if str, ok := v.(string); ok {
-			v = Styled{ws, str}
+			v = workbook.Styled{Style: ws, Value: str}
 		}
-		return s.Row(Styled{ls, it.Item}, v, it.Unit)
+		return s.Row(workbook.Styled{Style: ls, Value: it.Item}, v, it.Unit)
 	}
 	for _, it := range items {
 		if err := row(it); err != nil {
@@ -394,21 +375,14 @@ func WriteSummarySheet(b *Book, name string, items []SummaryItem, warnings []str
 			return err
 		}
 	}
-	if err := row(SummaryItem{"caution", Caution, ""}); err != nil {
+	if err := row(SummaryItem{"caution", rating.Caution, ""}); err != nil {
 		return err
 	}
 	return s.Flush()
 }
 
-// Sig3 returns v styled to show three significant figures (FormatSig3),
-// for a single cell such as a summary value.
-func (b *Book) Sig3(v float64) (Styled, error) {
-	id, err := b.Style(decimalsFormat(Sig3Decimals(v)))
-	return Styled{id, v}, err
-}
-
 // writeSummary writes the summary sheet of a results workbook.
-func writeSummary(b *Book, rw RatingWorkbook) error {
+func writeSummary(b *workbook.Book, rw RatingWorkbook) error {
 	t := rw.Table
 	u := t.Units
 	version := rw.Version

@@ -1,9 +1,11 @@
-package survey
+package results
 
 import (
 	"fmt"
 	"io"
 	"wetline/rating/reach"
+	"wetline/survey"
+	"wetline/survey/workbook"
 )
 
 // Sheet names of a slope-area results workbook besides SheetSummary and
@@ -36,11 +38,11 @@ const IndirectNote = "Indirect estimates of a flood peak carry large uncertainty
 //   - uncertainty: the Monte Carlo percentiles, settings and
 //     sensitivities, when run;
 //   - plots: the pictures.
-func WriteSlopeAreaWorkbook(w io.Writer, rep SlopeAreaReport, pics []Picture) error {
-	b := NewBook()
+func WriteSlopeAreaWorkbook(w io.Writer, rep SlopeAreaReport, pics []workbook.Picture) error {
+	b := workbook.NewBook()
 	defer b.Close()
 	b.Title = "wetline slope-area: " + saReachName(rep)
-	for _, write := range []func(*Book, SlopeAreaReport) error{
+	for _, write := range []func(*workbook.Book, SlopeAreaReport) error{
 		writeSASummary, writeSAInputs, writeSASections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
 	} {
 		if err := write(b, rep); err != nil {
@@ -60,10 +62,10 @@ func saReachName(rep SlopeAreaReport) string {
 	if rep.Reach == nil {
 		return "reach"
 	}
-	return (&ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+	return (&survey.ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
 }
 
-func writeSASummary(b *Book, rep SlopeAreaReport) error {
+func writeSASummary(b *workbook.Book, rep SlopeAreaReport) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
@@ -72,18 +74,18 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 		version = "unknown"
 	}
 	var err error
-	num := func(format string, v float64) any { return b.stickyNumber(format, v, &err) }
+	num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
 	items := []SummaryItem{
 		{"reach table", saReachName(rep), ""},
 		{"program", "wetline " + version, ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), ""},
-		{"peak discharge", num(FormatSig3, r.Discharge), Q},
+		{"peak discharge", num(workbook.FormatSig3, r.Discharge), Q},
 	}
 	add := func(item string, v any, unit string) { items = append(items, SummaryItem{item, v, unit}) }
 	if un := rep.Uncertainty; un != nil {
-		add("5th percentile", num(FormatSig3, un.P05), Q)
-		add("median", num(FormatSig3, un.P50), Q)
-		add("95th percentile", num(FormatSig3, un.P95), Q)
+		add("5th percentile", num(workbook.FormatSig3, un.P05), Q)
+		add("median", num(workbook.FormatSig3, un.P50), Q)
+		add("95th percentile", num(workbook.FormatSig3, un.P95), Q)
 		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %d draws (%d without a solution), seed %d: see the uncertainty sheet", un.Draws, un.Failed, un.Seed), "")
 	} else {
 		add("band", "no Monte Carlo analysis was run", "")
@@ -93,8 +95,8 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
 		add("reach length", num("0.0", r.Length), L)
 		add("fall", num("0.000", r.Fall), L)
-		add("least subreach discharge", num(FormatSig3, r.SubreachMin), Q)
-		add("greatest subreach discharge", num(FormatSig3, r.SubreachMax), Q)
+		add("least subreach discharge", num(workbook.FormatSig3, r.SubreachMin), Q)
+		add("greatest subreach discharge", num(workbook.FormatSig3, r.SubreachMax), Q)
 		add("subreach spread", num("0.0", 100*r.SubreachSpread), "% of the peak")
 	default:
 		add("method", "single-section slope-conveyance Q = K·√S with an assumed slope: a weaker method, no measured fall", "")
@@ -116,9 +118,9 @@ func writeSASummary(b *Book, rep SlopeAreaReport) error {
 	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
 }
 
-func writeSAInputs(b *Book, rep SlopeAreaReport) error {
+func writeSAInputs(b *workbook.Book, rep SlopeAreaReport) error {
 	L := rep.Result.Units.Length()
-	s, err := b.Table(SheetReachInputs, []Column{
+	s, err := b.Table(SheetReachInputs, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "survey", Width: 24},
 		{Name: "distance", Unit: L, Format: "0.0"},
@@ -145,19 +147,19 @@ func writeSAInputs(b *Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSASections(b *Book, rep SlopeAreaReport) error {
+func writeSASections(b *workbook.Book, rep SlopeAreaReport) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSections, []Column{
+	s, err := b.Table(SheetSections, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "distance", Unit: L, Format: "0.0"},
 		{Name: "water_surface", Unit: L, Format: "0.000"},
 		{Name: "thalweg", Unit: L, Format: "0.000"},
-		{Name: "area", Unit: u.Area(), Format: FormatSig3},
+		{Name: "area", Unit: u.Area(), Format: workbook.FormatSig3},
 		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
 		{Name: "top_width", Unit: L, Format: "0.00"},
 		{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
-		{Name: "conveyance", Unit: u.Conveyance(), Format: FormatSig3},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
 		{Name: "alpha", Format: "0.000"},
 		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
 		{Name: "velocity_head", Unit: L, Format: "0.000"},
@@ -176,15 +178,15 @@ func writeSASections(b *Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSASubreaches(b *Book, rep SlopeAreaReport) error {
+func writeSASubreaches(b *workbook.Book, rep SlopeAreaReport) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSubreaches, []Column{
+	s, err := b.Table(SheetSubreaches, []workbook.Column{
 		{Name: "from", Width: 12},
 		{Name: "to", Width: 12},
 		{Name: "length", Unit: L, Format: "0.0"},
 		{Name: "fall", Unit: L, Format: "0.000"},
-		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "flow", Width: 12},
 		{Name: "eddy_k", Format: "0.0"},
 		{Name: "friction_loss", Unit: L, Format: "0.000"},
@@ -208,12 +210,12 @@ func writeSASubreaches(b *Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSAChecks(b *Book, rep SlopeAreaReport) error {
-	cols := []Column{
+func writeSAChecks(b *workbook.Book, rep SlopeAreaReport) error {
+	cols := []workbook.Column{
 		{Name: "check", Width: 30},
-		{Name: "value", Format: FormatSig3},
+		{Name: "value", Format: workbook.FormatSig3},
 		{Name: "relation", Width: 10},
-		{Name: "limit", Format: FormatSig3},
+		{Name: "limit", Format: workbook.FormatSig3},
 		{Name: "status", Width: 10},
 		{Name: "source", Width: 60},
 	}
@@ -226,7 +228,7 @@ func writeSAChecks(b *Book, rep SlopeAreaReport) error {
 		return err
 	}
 	for _, c := range rep.Result.Checks {
-		vals := []any{c.Name, c.Value, c.Relation, c.Limit, c.Status(), Styled{ws, c.Source}}
+		vals := []any{c.Name, c.Value, c.Relation, c.Limit, c.Status(), workbook.Styled{Style: ws, Value: c.Source}}
 		if !c.Pass {
 			for i := range 5 { // the source keeps its wrapping
 				if vals[i], err = b.Marked(cols[i].Format, vals[i]); err != nil {
@@ -241,7 +243,7 @@ func writeSAChecks(b *Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSAUncertainty(b *Book, rep SlopeAreaReport) error {
+func writeSAUncertainty(b *workbook.Book, rep SlopeAreaReport) error {
 	un := rep.Uncertainty
 	if un == nil {
 		return nil
@@ -249,10 +251,10 @@ func writeSAUncertainty(b *Book, rep SlopeAreaReport) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	s, err := b.Table(SheetUncertainty, []Column{
+	s, err := b.Table(SheetUncertainty, []workbook.Column{
 		{Name: "quantity", Width: 40},
 		{Name: "section", Width: 12},
-		{Name: "value", Format: FormatSig3, Width: 14},
+		{Name: "value", Format: workbook.FormatSig3, Width: 14},
 		{Name: "unit", Width: 14},
 	})
 	if err != nil {

@@ -1,4 +1,4 @@
-package survey
+package workbook
 
 import (
 	"archive/zip"
@@ -70,7 +70,6 @@ func Sig3Decimals(v float64) int {
 	return max(0, min(d, MaxSig3Decimals))
 }
 
-// decimalsFormat returns the format code with d decimals: "0", "0.0", ...
 // Number returns v styled with a number format code (FormatSig3 picks the
 // decimals from the value), or nil, an empty cell, when v is NaN or ±Inf.
 func (b *Book) Number(format string, v float64) (any, error) {
@@ -78,7 +77,7 @@ func (b *Book) Number(format string, v float64) (any, error) {
 		return nil, nil
 	}
 	if format == FormatSig3 {
-		format = decimalsFormat(Sig3Decimals(v))
+		format = DecimalsFormat(Sig3Decimals(v))
 	}
 	id, err := b.Style(format)
 	if err != nil {
@@ -87,9 +86,9 @@ func (b *Book) Number(format string, v float64) (any, error) {
 	return Styled{id, v}, nil
 }
 
-// stickyNumber is Number for a run of summary items: after the first
-// error, kept in *err, it returns nil.
-func (b *Book) stickyNumber(format string, v float64, err *error) any {
+// NumberOnce is Number for a run of summary items: it keeps the first
+// error in *err and, from then on, returns nil without trying.
+func (b *Book) NumberOnce(format string, v float64, err *error) any {
 	if *err != nil {
 		return nil
 	}
@@ -100,7 +99,8 @@ func (b *Book) stickyNumber(format string, v float64, err *error) any {
 	return x
 }
 
-func decimalsFormat(d int) string {
+// DecimalsFormat returns the format code with d decimals: "0", "0.0", ...
+func DecimalsFormat(d int) string {
 	if d <= 0 {
 		return "0"
 	}
@@ -131,9 +131,11 @@ type Picture struct {
 // b.Write(w); b.Close().
 type Book struct {
 	// Title heads every printed page (with the sheet name and page
-	// number); set it before adding sheets. Every page's foot carries
-	// Caution.
-	Title   string
+	// number); set it before adding sheets.
+	Title string
+	// Footer is printed at the foot of every page (wetline's writers put
+	// the caution there); set it before adding sheets.
+	Footer  string
 	f       *excelize.File
 	styles  map[string]int
 	first   bool // the default sheet has not been claimed yet
@@ -144,10 +146,6 @@ type Book struct {
 func NewBook() *Book {
 	return &Book{f: excelize.NewFile(), styles: map[string]int{}, first: true}
 }
-
-// File exposes the workbook for edits beyond tables (validation rules,
-// notes). Edits to a Table sheet after its Flush are lost.
-func (b *Book) File() *excelize.File { return b.f }
 
 // Close removes the workbook's temporary files.
 func (b *Book) Close() error { return b.f.Close() }
@@ -237,7 +235,7 @@ func (b *Book) MarkStyle(format string) (int, error) {
 func (b *Book) Marked(format string, v any) (Styled, error) {
 	if format == FormatSig3 {
 		x, _ := v.(float64)
-		format = decimalsFormat(Sig3Decimals(x))
+		format = DecimalsFormat(Sig3Decimals(x))
 	}
 	id, err := b.MarkStyle(format)
 	return Styled{id, v}, err
@@ -278,7 +276,7 @@ func (b *Book) printSetup(sheet string) error {
 	head := strings.NewReplacer("&", "&&").Replace(string(title))
 	if err := b.f.SetHeaderFooter(sheet, &excelize.HeaderFooterOptions{
 		OddHeader: "&L" + head + "&R&A, page &P of &N",
-		OddFooter: "&L&7" + Caution,
+		OddFooter: "&L&7" + strings.NewReplacer("&", "&&").Replace(b.Footer),
 	}); err != nil {
 		return err
 	}
@@ -408,7 +406,7 @@ func (s *SheetWriter) Row(values ...any) error {
 		st := s.styles[i]
 		if st < 0 {
 			x, _ := v.(float64)
-			id, err := s.b.Style(decimalsFormat(Sig3Decimals(x)))
+			id, err := s.b.Style(DecimalsFormat(Sig3Decimals(x)))
 			if err != nil {
 				return err
 			}
@@ -523,4 +521,24 @@ func (b *Book) Write(w io.Writer) error {
 	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return zip.NewWriter(w) })
 	_, err := b.f.WriteTo(w)
 	return err
+}
+
+// Sig3 returns v styled to show three significant figures (see
+// FormatSig3).
+func (b *Book) Sig3(v float64) (Styled, error) {
+	id, err := b.Style(DecimalsFormat(Sig3Decimals(v)))
+	return Styled{id, v}, err
+}
+
+// InputStyle returns the id of the style of cells a crew fills in: a
+// number format code ("" for General) on the input colour.
+func (b *Book) InputStyle(format string) (int, error) {
+	return b.style("input:"+format, func() *excelize.Style {
+		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourInputFill}}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
+	})
 }

@@ -1,20 +1,22 @@
-package survey_test
+package results_test
 
 import (
 	"bytes"
 	"fmt"
 
 	"wetline/survey"
+	"wetline/survey/results"
+	"wetline/survey/workbook"
 )
 
 // A table sheet written with units and number formats reads back by its
 // column names.
 func ExampleBook() {
-	b := survey.NewBook()
+	b := workbook.NewBook()
 	defer b.Close()
-	s, err := b.Table("gaugings", []survey.Column{
+	s, err := b.Table("gaugings", []workbook.Column{
 		{Name: "stage", Unit: "m", Format: "0.000"},
-		{Name: "discharge", Unit: "m3/s", Format: survey.FormatSig3},
+		{Name: "discharge", Unit: "m3/s", Format: workbook.FormatSig3},
 		{Name: "quality"},
 	})
 	if err != nil {
@@ -51,7 +53,7 @@ func ExampleBook() {
 // than whole units.
 func ExampleSig3Decimals() {
 	for _, q := range []float64{1234.6, 123.46, 12.346, 1.2346, 0.012346} {
-		fmt.Printf("%.*f\n", survey.Sig3Decimals(q), q)
+		fmt.Printf("%.*f\n", workbook.Sig3Decimals(q), q)
 	}
 	// Output:
 	// 1235
@@ -64,7 +66,7 @@ func ExampleSig3Decimals() {
 // A lookup table starts at the tenth at or below the lowest ground and
 // steps by hundredths.
 func ExampleLookupStages() {
-	stages, err := survey.LookupStages(100.34, 100.52)
+	stages, err := results.LookupStages(100.34, 100.52)
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -1,4 +1,4 @@
-package survey
+package results
 
 import (
 	"fmt"
@@ -8,6 +8,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/survey/workbook"
 )
 
 // Sheet names of a fit results workbook that a rating workbook does not
@@ -31,7 +32,7 @@ type FitWorkbook struct {
 	// Version is the program version stated in the summary.
 	Version string
 	// Pictures are embedded on a plots sheet (none: no sheet).
-	Pictures []Picture
+	Pictures []workbook.Picture
 }
 
 // FitLookupCells evaluates a report's lookup-table rule (FitTable.At) at
@@ -87,7 +88,7 @@ func FitLookupCells(r *gauged.Report, c *rating.HydraulicCurve) ([]LookupCell, e
 // Stages are gauge heights throughout.
 func WriteFitWorkbook(w io.Writer, fw FitWorkbook) error {
 	r := fw.Report
-	b := NewBook()
+	b := workbook.NewBook()
 	defer b.Close()
 	b.Title = "wetline fit: " + r.Site
 	if err := writeFitSummary(b, fw); err != nil {
@@ -128,7 +129,7 @@ func yes(b bool) any {
 }
 
 // writeFitSummary writes the summary sheet of a fit workbook.
-func writeFitSummary(b *Book, fw FitWorkbook) error {
+func writeFitSummary(b *workbook.Book, fw FitWorkbook) error {
 	r := fw.Report
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
@@ -141,7 +142,7 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 	var err error
 	// num styles a number with a format code (FormatSig3 chooses per
 	// value); undefined numbers leave the item out.
-	num := func(format string, v float64) any { return b.stickyNumber(format, v, &err) }
+	num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
 	add("site", r.Site, "")
 	add("read from", fw.Source, "")
 	add("program", "wetline "+version, "")
@@ -216,37 +217,37 @@ func writeFitSummary(b *Book, fw FitWorkbook) error {
 }
 
 // writeGaugingsSheet writes one row per gauging, in input order.
-func writeGaugingsSheet(b *Book, r *gauged.Report) error {
+func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	cols := []Column{
-		{Name: "time", Format: FormatDateTime, Width: 17},
+	cols := []workbook.Column{
+		{Name: "time", Format: workbook.FormatDateTime, Width: 17},
 		{Name: "stage", Unit: L, Format: "0.000"},
-		{Name: "discharge", Unit: Q, Format: FormatSig3},
+		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "quality", Width: 10},
 		{Name: "note", Width: 24},
 	}
 	if r.Comparison != nil {
 		cols = append(cols,
-			Column{Name: "hydraulic", Unit: Q, Format: FormatSig3},
-			Column{Name: "hydraulic_departure", Unit: "%", Format: "0.0"},
-			Column{Name: "hydraulic_shift", Unit: L, Format: "0.000"},
-			Column{Name: "hydraulic_outside_band", Width: 12})
+			workbook.Column{Name: "hydraulic", Unit: Q, Format: workbook.FormatSig3},
+			workbook.Column{Name: "hydraulic_departure", Unit: "%", Format: "0.0"},
+			workbook.Column{Name: "hydraulic_shift", Unit: L, Format: "0.000"},
+			workbook.Column{Name: "hydraulic_outside_band", Width: 12})
 	}
 	if r.Fit != nil {
 		cols = append(cols,
-			Column{Name: "fitted", Unit: Q, Format: FormatSig3},
-			Column{Name: "departure", Unit: "%", Format: "0.0"},
-			Column{Name: "log_residual", Format: "0.0000"},
-			Column{Name: "shift", Unit: L, Format: "0.000"},
-			Column{Name: "outside_band", Width: 12},
-			Column{Name: "weight", Format: "0.000"},
-			Column{Name: "excluded", Width: 10})
+			workbook.Column{Name: "fitted", Unit: Q, Format: workbook.FormatSig3},
+			workbook.Column{Name: "departure", Unit: "%", Format: "0.0"},
+			workbook.Column{Name: "log_residual", Format: "0.0000"},
+			workbook.Column{Name: "shift", Unit: L, Format: "0.000"},
+			workbook.Column{Name: "outside_band", Width: 12},
+			workbook.Column{Name: "weight", Format: "0.000"},
+			workbook.Column{Name: "excluded", Width: 10})
 	}
 	if r.Calibration != nil {
-		cols = append(cols, Column{Name: "factor_on_n", Format: "0.000"}, Column{Name: "n", Format: "0.0000"})
+		cols = append(cols, workbook.Column{Name: "factor_on_n", Format: "0.000"}, workbook.Column{Name: "n", Format: "0.0000"})
 	}
-	cols = append(cols, Column{Name: "source", Width: 24})
+	cols = append(cols, workbook.Column{Name: "source", Width: 24})
 	s, err := b.Table(SheetGaugings, cols)
 	if err != nil {
 		return err
@@ -275,16 +276,16 @@ func writeGaugingsSheet(b *Book, r *gauged.Report) error {
 }
 
 // writeFitTableSheet writes the fit's lookup table, extrapolated rows marked.
-func writeFitTableSheet(b *Book, u rating.Units, t *gauged.FitTable) error {
+func writeFitTableSheet(b *workbook.Book, u rating.Units, t *gauged.FitTable) error {
 	L, Q := u.Length(), u.Discharge()
-	cols := []Column{
+	cols := []workbook.Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
-		{Name: "discharge", Unit: Q, Format: FormatSig3},
+		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "extrapolated", Width: 13},
 		{Name: "basis", Width: 20},
-		{Name: "lower_95", Unit: Q, Format: FormatSig3},
-		{Name: "upper_95", Unit: Q, Format: FormatSig3},
-		{Name: "hydraulic", Unit: Q, Format: FormatSig3},
+		{Name: "lower_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "upper_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "hydraulic", Unit: Q, Format: workbook.FormatSig3},
 	}
 	s, err := b.Table(SheetFitTable, cols)
 	if err != nil {
@@ -308,17 +309,17 @@ func writeFitTableSheet(b *Book, u rating.Units, t *gauged.FitTable) error {
 }
 
 // writeNByStageSheet writes the back-calculated n of each gauging, by stage.
-func writeNByStageSheet(b *Book, r *gauged.Report) error {
+func writeNByStageSheet(b *workbook.Book, r *gauged.Report) error {
 	u := r.Units
 	c := r.Calibration
-	s, err := b.Table(SheetNByStage, []Column{
+	s, err := b.Table(SheetNByStage, []workbook.Column{
 		{Name: "stage", Unit: u.Length(), Format: "0.000"},
-		{Name: "discharge", Unit: u.Discharge(), Format: FormatSig3},
-		{Name: "rated", Unit: u.Discharge(), Format: FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
+		{Name: "rated", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "factor_on_n", Format: "0.000"},
 		{Name: "n", Format: "0.0000"},
 		{Name: "subsection", Format: "0"},
-		{Name: "time", Format: FormatDateTime, Width: 17},
+		{Name: "time", Format: workbook.FormatDateTime, Width: 17},
 	})
 	if err != nil {
 		return err
