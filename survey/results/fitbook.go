@@ -88,9 +88,8 @@ func FitLookupCells(r *gauged.Report, c *rating.HydraulicCurve) ([]LookupCell, e
 // Stages are gauge heights throughout.
 func WriteFitWorkbook(w io.Writer, fw FitWorkbook) error {
 	r := fw.Report
-	b := workbook.NewBook()
+	b := newBook("wetline fit: " + r.Site)
 	defer b.Close()
-	b.Title = "wetline fit: " + r.Site
 	if err := writeFitSummary(b, fw); err != nil {
 		return err
 	}

@@ -103,9 +103,8 @@ func hundredths(h float64) (int64, bool) {
 // Every table sheet is streamed, so memory stays bounded for any number of
 // rows.
 func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
-	b := workbook.NewBook()
+	b := newBook("wetline rating: " + rw.Table.Name)
 	defer b.Close()
-	b.Title = "wetline rating: " + rw.Table.Name
 	if err := writeSummary(b, rw); err != nil {
 		return err
 	}
@@ -444,4 +443,12 @@ func banks(subs []subdivide.Subsection) (left, right float64, ok bool) {
 		}
 	}
 	return left, right, over && left < right
+}
+
+// newBook starts a results workbook whose printed pages carry title at
+// the head and the caution at the foot.
+func newBook(title string) *workbook.Book {
+	b := workbook.NewBook()
+	b.Title, b.Footer = title, rating.Caution
+	return b
 }

@@ -39,9 +39,8 @@ const IndirectNote = "Indirect estimates of a flood peak carry large uncertainty
 //     sensitivities, when run;
 //   - plots: the pictures.
 func WriteSlopeAreaWorkbook(w io.Writer, rep SlopeAreaReport, pics []workbook.Picture) error {
-	b := workbook.NewBook()
+	b := newBook("wetline slope-area: " + saReachName(rep))
 	defer b.Close()
-	b.Title = "wetline slope-area: " + saReachName(rep)
 	for _, write := range []func(*workbook.Book, SlopeAreaReport) error{
 		writeSASummary, writeSAInputs, writeSASections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
 	} {
