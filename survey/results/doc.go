@@ -1,0 +1,11 @@
+// Package results writes wetline's reports: each result in each of its
+// formats (CSV, JSON, text for reading on a console, and xlsx results
+// workbooks with figures). Every writer renders the result's warnings and
+// the caution (rating.Caution) itself.
+//
+// CSV and JSON columns and keys are a contract with scripts: the
+// documented ones come first, in order, and later versions add after them.
+// JSON is encoded from structs so keys keep that order; undefined values
+// are null in JSON and empty cells in CSV. Stages and lengths are written
+// to LengthDecimals decimals, other values to six significant digits.
+package results
