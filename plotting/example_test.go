@@ -5,7 +5,6 @@ import (
 	"io"
 
 	"wetline/plotting"
-	"wetline/subdivide"
 )
 
 // A rating figure from a few invented points: the gauging below the gauge
@@ -32,17 +31,4 @@ func ExampleRating() {
 	// Output:
 	// 2 left out of the log-log panel
 	// log–log panel: 1 gauging(s) at or below the gauge height of zero flow (1.00 m) or without positive discharge left out
-}
-
-func ExampleBankfull() {
-	sec := subdivide.Section{
-		Points: []subdivide.Point{
-			{Station: 0, Elevation: 12}, {Station: 10, Elevation: 11.2}, {Station: 14, Elevation: 9},
-			{Station: 20, Elevation: 10.9}, {Station: 30, Elevation: 12},
-		},
-		HasBanks: true, LeftBank: 10, RightBank: 20,
-	}
-	h, ok := plotting.Bankfull(sec)
-	fmt.Printf("%.2f %v\n", h, ok)
-	// Output: 10.90 true
 }

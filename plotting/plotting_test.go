@@ -88,7 +88,7 @@ type figureCase struct {
 func demoFigures(t testing.TB) []figureCase {
 	sv := demoSection(t)
 	tab := demoTable(t, sv.Section)
-	bf, ok := plotting.Bankfull(sv.Section)
+	bf, ok := sv.Section.Bankfull()
 	if !ok {
 		t.Fatal("demo section has no banks")
 	}
@@ -336,26 +336,6 @@ func TestRatingReference(t *testing.T) {
 	}
 	checkPNG(t, "reference", buf.Bytes(), plotting.DefaultWidth, plotting.DefaultHeight)
 	keep(t, "reference.png", buf.Bytes())
-}
-
-func TestBankfull(t *testing.T) {
-	pts := subdivide.XZ(0, 5, 2, 3, 4, 0, 6, 2, 8, 6)
-	for _, tc := range []struct {
-		name       string
-		sec        subdivide.Section
-		want       float64
-		wantBanked bool
-	}{
-		// Closed form: linear interpolation of the ground at the banks.
-		{"on points", subdivide.Section{Points: pts, HasBanks: true, LeftBank: 2, RightBank: 6}, 2, true},
-		{"between points", subdivide.Section{Points: pts, HasBanks: true, LeftBank: 1, RightBank: 7}, 4, true},
-		{"no banks", subdivide.Section{Points: pts}, 0, false},
-	} {
-		got, ok := plotting.Bankfull(tc.sec)
-		if ok != tc.wantBanked || got != tc.want {
-			t.Errorf("%s: Bankfull = %v, %v; want %v, %v", tc.name, got, ok, tc.want, tc.wantBanked)
-		}
-	}
 }
 
 func BenchmarkRating(b *testing.B) {

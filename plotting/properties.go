@@ -3,7 +3,6 @@ package plotting
 import (
 	"fmt"
 	"io"
-	"math"
 	"sort"
 
 	"gonum.org/v1/plot"
@@ -12,7 +11,6 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"wetline/rating"
-	"wetline/subdivide"
 )
 
 // PropertyRow is the hydraulic geometry of a section at one stage.
@@ -42,42 +40,12 @@ type PropertiesPlot struct {
 	// Rows are the properties by stage, in any order.
 	Rows []PropertyRow
 	// Bankfull is the stage at which the water leaves the main channel
-	// (length unit), marked when HasBankfull is true; see Bankfull.
+	// (length unit), marked when HasBankfull is true; see
+	// subdivide.Section.Bankfull.
 	Bankfull    float64
 	HasBankfull bool
 	// Size is the pixel size (zero value: the default).
 	Size Size
-}
-
-// Bankfull returns the bankfull stage of a section: the lower of the
-// ground elevations at the two bank stations. It reports false for a
-// section without banks.
-func Bankfull(s subdivide.Section) (float64, bool) {
-	if !s.HasBanks || len(s.Points) < 2 {
-		return 0, false
-	}
-	return math.Min(groundAt(s.Points, s.LeftBank), groundAt(s.Points, s.RightBank)), true
-}
-
-// groundAt interpolates the ground at station x (on a vertical wall, the
-// higher point).
-func groundAt(pts []subdivide.Point, x float64) float64 {
-	best := math.Inf(-1)
-	for i := 0; i+1 < len(pts); i++ {
-		a, b := pts[i], pts[i+1]
-		if a.Station <= x && x <= b.Station {
-			if a.Station == b.Station {
-				best = math.Max(best, math.Max(a.Elevation, b.Elevation))
-				continue
-			}
-			t := (x - a.Station) / (b.Station - a.Station)
-			best = math.Max(best, a.Elevation+t*(b.Elevation-a.Elevation))
-		}
-	}
-	if math.IsInf(best, -1) {
-		return math.NaN()
-	}
-	return best
 }
 
 // PropertiesFromTable copies the properties of a rating table.

@@ -377,15 +377,8 @@ type sectionDecor struct {
 }
 
 func (d sectionDecor) groundAt(x float64) float64 {
-	for i := 0; i+1 < len(d.pts); i++ {
-		a, b := d.pts[i], d.pts[i+1]
-		if a.Station <= x && x <= b.Station {
-			if b.Station == a.Station {
-				return math.Max(a.Elevation, b.Elevation)
-			}
-			t := (x - a.Station) / (b.Station - a.Station)
-			return a.Elevation + t*(b.Elevation-a.Elevation)
-		}
+	if z := subdivide.GroundAt(d.pts, x); !math.IsNaN(z) {
+		return z
 	}
 	return d.pts[len(d.pts)-1].Elevation
 }

@@ -15,7 +15,7 @@ func mustShape(t testing.TB, spec string, n float64) subdivide.Geometry {
 	if err != nil {
 		t.Fatal(err)
 	}
-	g, err := s.Build([3]float64{n, n, n})
+	g, err := s.Build(subdivide.UniformN(n))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -269,16 +269,16 @@ func randomSection(rng *rand.Rand, i int) (subdivide.Geometry, string) {
 	switch i % 5 {
 	case 0:
 		s := subdivide.Shape{Kind: subdivide.Trapezoid, Bottom: 0.2 + 30*rng.Float64(), Left: 4 * rng.Float64(), Right: 4 * rng.Float64(), Invert: 50 * rng.Float64()}
-		g, _ := s.Build([3]float64{n})
+		g, _ := s.Build(subdivide.RegionN{Channel: n})
 		return g, s.String()
 	case 1:
 		s := subdivide.Shape{Kind: subdivide.Circle, Diameter: 0.1 + 4*rng.Float64(), Invert: 10 * rng.Float64()}
-		g, _ := s.Build([3]float64{n})
+		g, _ := s.Build(subdivide.RegionN{Channel: n})
 		return g, s.String()
 	case 2:
 		s := subdivide.Shape{Kind: subdivide.Compound, Bottom: 0.5 + 10*rng.Float64(), Left: 2 * rng.Float64(), Right: 2 * rng.Float64(),
 			Depth: 0.3 + 3*rng.Float64(), Floodplain: 1 + 80*rng.Float64(), Outer: 5 * rng.Float64(), FloodN: 0.03 + 0.1*rng.Float64()}
-		g, _ := s.Build([3]float64{n, n, n})
+		g, _ := s.Build(subdivide.UniformN(n))
 		return g, s.String()
 	}
 	m := 3 + rng.IntN(15)
@@ -397,7 +397,7 @@ func TestUnsubdividedCompoundRoots(t *testing.T) {
 		{Station: 0, Elevation: 4}, {Station: 1, Elevation: 2}, {Station: 61, Elevation: 2}, {Station: 62, Elevation: 0},
 		{Station: 66, Elevation: 0}, {Station: 67, Elevation: 2}, {Station: 127, Elevation: 2}, {Station: 128, Elevation: 4},
 	}}
-	sec.NByRegion[subdivide.Channel] = 0.03
+	sec.NByRegion.Channel = 0.03
 	p, err := subdivide.Compile(sec)
 	if err != nil {
 		t.Fatal(err)

@@ -127,7 +127,7 @@ func Compile(s Section) (*Profile, error) {
 	for i := range p.seg {
 		reg := s.region(pts[i], pts[i+1])
 		n := ns[i]
-		if v := s.NByRegion[reg]; v > 0 {
+		if v := s.NByRegion.Of(reg); v > 0 {
 			n = v
 		}
 		last := len(p.subs) - 1

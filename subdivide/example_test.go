@@ -34,3 +34,18 @@ func ExampleProfile_At() {
 	//   channel         0.0- 6.0 n=0.030 A=6.125
 	//   right overbank  6.0-12.0 n=0.060 A=2.400
 }
+
+// The bankfull stage of a surveyed section: the lower bank top, here the
+// right bank at 10.9.
+func ExampleSection_Bankfull() {
+	sec := subdivide.Section{
+		Points: []subdivide.Point{
+			{Station: 0, Elevation: 12}, {Station: 10, Elevation: 11.2}, {Station: 14, Elevation: 9},
+			{Station: 20, Elevation: 10.9}, {Station: 30, Elevation: 12},
+		},
+		HasBanks: true, LeftBank: 10, RightBank: 20,
+	}
+	h, ok := sec.Bankfull()
+	fmt.Printf("%.2f %v\n", h, ok)
+	// Output: 10.90 true
+}

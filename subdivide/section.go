@@ -46,13 +46,34 @@ type Section struct {
 	// of the ground from Points[i] to Points[i+1]: len(Points)-1 values.
 	// Nil means no n is known; NByRegion or a later override must supply it.
 	N []float64
-	// NByRegion, where an entry is > 0, replaces N for every segment in that
-	// region (indexed by Region: channel, left overbank, right overbank).
-	NByRegion [3]float64
+	// NByRegion, where a region's value is > 0, replaces N for every
+	// segment in that region.
+	NByRegion RegionN
 	// HasBanks says whether LeftBank and RightBank hold the stations of the
 	// main-channel limits. Both must lie within the section, LeftBank < RightBank.
 	HasBanks            bool
 	LeftBank, RightBank float64
+}
+
+// RegionN holds a Manning's n for each region of a section: the left
+// overbank, the main channel and the right overbank. A zero value means
+// no n is given for that region. A section without banks is all channel.
+type RegionN struct {
+	Left, Channel, Right float64
+}
+
+// UniformN returns n for every region.
+func UniformN(n float64) RegionN { return RegionN{Left: n, Channel: n, Right: n} }
+
+// Of returns the n of region r.
+func (n RegionN) Of(r Region) float64 {
+	switch r {
+	case LeftOverbank:
+		return n.Left
+	case RightOverbank:
+		return n.Right
+	}
+	return n.Channel
 }
 
 // Subsection describes one part of a section between vertical dividers:
@@ -128,7 +149,7 @@ func (s Section) Validate() error {
 			}
 		}
 	}
-	for _, n := range s.NByRegion {
+	for _, n := range []float64{s.NByRegion.Left, s.NByRegion.Channel, s.NByRegion.Right} {
 		if n < 0 || math.IsNaN(n) || math.IsInf(n, 0) {
 			return &ValidationError{Point: -1, Field: "n", Err: ErrBadN}
 		}

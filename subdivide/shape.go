@@ -368,12 +368,12 @@ func (s Shape) NominalHeight() float64 {
 }
 
 // Section returns an open shape as a ground line at its nominal height,
-// with Manning's n per segment from n (indexed by Region; the floodplains
-// of a compound shape take FloodN when it is set) and, for a compound
+// with Manning's n per segment from n by region (the floodplains of a
+// compound shape take FloodN when it is set) and, for a compound
 // shape, the bank stations at the main channel's top corners. An n of 0
 // leaves N nil. Stations start at 0 at the top of the left side. A circle
 // has no ground-line form (its top is closed): ErrShapeKind.
-func (s Shape) Section(n [3]float64) (Section, error) {
+func (s Shape) Section(n RegionN) (Section, error) {
 	if err := s.Validate(); err != nil {
 		return Section{}, err
 	}
@@ -386,9 +386,9 @@ func (s Shape) Section(n [3]float64) (Section, error) {
 // sectionAt builds the ground line with sides reaching height h above the
 // invert. The bottom-left corner keeps the station it has at the nominal
 // height, so stations of the inner points never depend on h.
-func (s Shape) sectionAt(h float64, n [3]float64) Section {
+func (s Shape) sectionAt(h float64, n RegionN) Section {
 	h0 := s.NominalHeight()
-	nc, nl, nr := n[Channel], n[LeftOverbank], n[RightOverbank]
+	nc, nl, nr := n.Channel, n.Left, n.Right
 	if s.FloodN > 0 {
 		nl, nr = s.FloodN, s.FloodN
 	}
@@ -439,14 +439,14 @@ func (s Shape) sectionAt(h float64, n [3]float64) Section {
 }
 
 // Build returns the exact geometry of a shape with Manning's n by region
-// (n[Channel] for a shape without floodplains). A circle is a *Conduit;
+// (n.Channel for a shape without floodplains). A circle is a *Conduit;
 // an open shape is a *Prism.
-func (s Shape) Build(n [3]float64) (Geometry, error) {
+func (s Shape) Build(n RegionN) (Geometry, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
 	if s.Kind == Circle {
-		return &Conduit{Diameter: s.Diameter, Invert: s.Invert, N: n[Channel], Label: s.String()}, nil
+		return &Conduit{Diameter: s.Diameter, Invert: s.Invert, N: n.Channel, Label: s.String()}, nil
 	}
 	sec := s.sectionAt(s.NominalHeight(), n)
 	p, err := Compile(sec)
@@ -461,7 +461,7 @@ func (s Shape) Build(n [3]float64) (Geometry, error) {
 // straight, so every stage is exact. Safe for concurrent use.
 type Prism struct {
 	shape   Shape
-	n       [3]float64
+	n       RegionN
 	nominal *Profile
 }
 

@@ -15,7 +15,6 @@ import (
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
-	"wetline/subdivide"
 	"wetline/survey"
 	"wetline/survey/output"
 	"wetline/survey/results"
@@ -250,7 +249,7 @@ func (b *batch) rate(j batchJob) batchResult {
 			en.StageMax = r.Stage
 		}
 	}
-	if hb, ok := bankfullStage(l.geom); ok {
+	if hb, ok := l.section.Bankfull(); ok {
 		en.BankfullStage = hb
 		if bt, err := rating.Compute(l.geom, []float64{hb}, opt); err == nil && len(bt.Rows) == 1 {
 			en.BankfullDischarge = bt.Rows[0].Discharge
@@ -273,39 +272,6 @@ func (b *batch) rate(j batchJob) batchResult {
 		r.table = t
 	}
 	return r
-}
-
-// bankfullStage returns the lower of the two bank tops (the highest ground
-// at each bank station) of a surveyed section with banks.
-func bankfullStage(g subdivide.Geometry) (float64, bool) {
-	p, ok := g.(*subdivide.Profile)
-	if !ok {
-		return 0, false
-	}
-	subs := p.Subsections()
-	left, right := math.Inf(1), math.Inf(-1)
-	banks := false
-	for _, s := range subs {
-		if s.Region != subdivide.Channel {
-			banks = true
-			continue
-		}
-		left, right = math.Min(left, s.From), math.Max(right, s.To)
-	}
-	if !banks || math.IsInf(left, 0) {
-		return 0, false
-	}
-	top := func(x float64) float64 {
-		z := math.Inf(-1)
-		for _, q := range p.Points() {
-			if q.Station == x {
-				z = math.Max(z, q.Elevation)
-			}
-		}
-		return z
-	}
-	hb := math.Min(top(left), top(right))
-	return hb, !math.IsInf(hb, 0)
 }
 
 // listSurveys expands the arguments into jobs in input order: a folder

@@ -127,7 +127,7 @@ func drawFigures(in figureInput) ([]figureFile, []string, error) {
 	var bankfull float64
 	var hasBankfull bool
 	if in.loaded != nil {
-		bankfull, hasBankfull = plotting.Bankfull(in.loaded.section)
+		bankfull, hasBankfull = in.loaded.section.Bankfull()
 		rp.Bankfull, rp.HasBankfull = bankfull, hasBankfull
 	}
 	if err := add("rating", "stage–discharge rating, linear and log–log", func(w io.Writer) (plotting.Result, error) {

@@ -89,14 +89,14 @@ func (sf *sectionFlags) load(path string) (*loaded, error) {
 		}
 		switch len(v) {
 		case 1:
-			sec.NByRegion = [3]float64{v[0], v[0], v[0]}
+			sec.NByRegion = subdivide.UniformN(v[0])
 		case 3:
 			if !sec.HasBanks {
 				return nil, fmt.Errorf("%s: --n LEFT,CHANNEL,RIGHT needs bank stations (mark two points bank or give --banks)", path)
 			}
-			sec.NByRegion[subdivide.LeftOverbank] = v[0]
-			sec.NByRegion[subdivide.Channel] = v[1]
-			sec.NByRegion[subdivide.RightOverbank] = v[2]
+			sec.NByRegion.Left = v[0]
+			sec.NByRegion.Channel = v[1]
+			sec.NByRegion.Right = v[2]
 		default:
 			return nil, usagef("--n wants one value or three (LEFT,CHANNEL,RIGHT), got %q", sf.n)
 		}

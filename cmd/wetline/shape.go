@@ -61,8 +61,8 @@ func (sf *sectionFlags) loadShape(l *loaded, path string) (*loaded, error) {
 
 // shapeN reads --n for a built shape: one value, or LEFT,CHANNEL,RIGHT
 // for a compound shape (whose floodn key, when given, takes precedence).
-func (sf *sectionFlags) shapeN(sh subdivide.Shape) ([3]float64, error) {
-	var n [3]float64
+func (sf *sectionFlags) shapeN(sh subdivide.Shape) (subdivide.RegionN, error) {
+	var n subdivide.RegionN
 	if sf.n == "" {
 		return n, usagef("--shape: give Manning's n with --n")
 	}
@@ -77,9 +77,9 @@ func (sf *sectionFlags) shapeN(sh subdivide.Shape) ([3]float64, error) {
 	}
 	switch {
 	case len(v) == 1:
-		n = [3]float64{v[0], v[0], v[0]}
+		n = subdivide.UniformN(v[0])
 	case len(v) == 3 && sh.Kind == subdivide.Compound:
-		n[subdivide.LeftOverbank], n[subdivide.Channel], n[subdivide.RightOverbank] = v[0], v[1], v[2]
+		n = subdivide.RegionN{Left: v[0], Channel: v[1], Right: v[2]}
 	case len(v) == 3:
 		return n, usagef("--n LEFT,CHANNEL,RIGHT needs a compound shape; a %s has one n", sh.Kind)
 	default:
@@ -134,7 +134,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	if sh.Closed() {
 		return usagef("shape %q: a closed conduit has no open ground line to write as a survey; use it directly with --shape", fs.Arg(0))
 	}
-	var nv [3]float64
+	var nv subdivide.RegionN
 	if *n != "" {
 		sf := sectionFlags{n: *n}
 		if nv, err = sf.shapeN(sh); err != nil {

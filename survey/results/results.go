@@ -398,7 +398,7 @@ func writeSummary(b *workbook.Book, rw RatingWorkbook) error {
 		{"lowest ground", t.Bottom, u.Length()},
 		{"lower end of the section", t.Top, u.Length()},
 	}
-	if l, r, ok := banks(t.Subsections); ok {
+	if l, r, ok := subdivide.ChannelLimits(t.Subsections); ok {
 		items = append(items, SummaryItem{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
 	} else {
 		items = append(items, SummaryItem{"main channel between banks", "no banks: the whole section is channel", ""})
@@ -428,21 +428,6 @@ func writeSummary(b *workbook.Book, rw RatingWorkbook) error {
 		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
 	}
 	return WriteSummarySheet(b, SheetSummary, items, rw.Warnings)
-}
-
-// banks returns the main-channel limits implied by a subsection layout:
-// the outer stations of the channel subsections, when overbanks exist.
-func banks(subs []subdivide.Subsection) (left, right float64, ok bool) {
-	left, right = math.Inf(1), math.Inf(-1)
-	over := false
-	for _, s := range subs {
-		if s.Region == subdivide.Channel {
-			left, right = min(left, s.From), max(right, s.To)
-		} else {
-			over = true
-		}
-	}
-	return left, right, over && left < right
 }
 
 // newBook starts a results workbook whose printed pages carry title at
