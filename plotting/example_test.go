@@ -5,6 +5,7 @@ import (
 	"io"
 
 	"wetline/plotting"
+	"wetline/rating"
 )
 
 // A rating figure from a few invented points: the gauging below the gauge
@@ -17,7 +18,7 @@ func ExampleRating() {
 	}}
 	res, err := plotting.Rating(io.Discard, plotting.RatingPlot{
 		Site: "Example Brook", Section: "XS-1", Hydraulic: curve,
-		Gaugings: []plotting.Gauging{{Stage: 0.9, Discharge: 0.1, Quality: "poor"}, {Stage: 2.2, Discharge: 8, Quality: "good"}},
+		Gaugings: []plotting.Gauging{{Stage: 0.9, Discharge: 0.1, Quality: rating.Poor}, {Stage: 2.2, Discharge: 8, Quality: rating.Good}},
 		Size:     plotting.Size{Width: 800, Height: 500, DPI: 100},
 	})
 	if err != nil {

@@ -16,7 +16,6 @@ import (
 	"wetline/plotting"
 	"wetline/rating"
 	"wetline/subdivide"
-	"wetline/survey"
 )
 
 // Acceptance thresholds of a drawn figure, in the manner of gonum/plot's
@@ -126,9 +125,9 @@ func demoFigures(t testing.TB) []figureCase {
 // inventedGaugings are demo measurements; the first lies below the
 // hydraulic rating's gauge height of zero flow (100.30 m).
 var inventedGaugings = []plotting.Gauging{
-	{Stage: 100.2, Discharge: 0.01, Quality: "poor"}, {Stage: 100.6, Discharge: 1.2, Quality: "good"},
-	{Stage: 101.0, Discharge: 5.5, Quality: "excellent"}, {Stage: 101.5, Discharge: 14, Quality: "fair"},
-	{Stage: 102.1, Discharge: 38, Quality: "good"}, {Stage: 102.6, Discharge: 70},
+	{Stage: 100.2, Discharge: 0.01, Quality: rating.Poor}, {Stage: 100.6, Discharge: 1.2, Quality: rating.Good},
+	{Stage: 101.0, Discharge: 5.5, Quality: rating.Excellent}, {Stage: 101.5, Discharge: 14, Quality: rating.Fair},
+	{Stage: 102.1, Discharge: 38, Quality: rating.Good}, {Stage: 102.6, Discharge: 70},
 }
 
 // invented returns a made-up fitted power law with a ±10 % band,
@@ -197,7 +196,7 @@ func TestRatingLogViewOmits(t *testing.T) {
 		wantOmitted  int
 		wantGaugings string // count in the gauging warning, "" for none
 	}{
-		{"none out", []plotting.Gauging{{Stage: 10.6, Discharge: 4, Quality: "good"}}, 3, ""},
+		{"none out", []plotting.Gauging{{Stage: 10.6, Discharge: 4, Quality: rating.Good}}, 3, ""},
 		{"at e", []plotting.Gauging{{Stage: 10, Discharge: 1}, {Stage: 11, Discharge: 8}}, 4, "1 gauging"},
 		{"below e", []plotting.Gauging{{Stage: 9, Discharge: 1}, {Stage: -5, Discharge: 1}}, 5, "2 gauging"},
 		{"zero and negative discharge", []plotting.Gauging{{Stage: 11, Discharge: 0}, {Stage: 11.5, Discharge: -3}}, 5, "2 gauging"},
@@ -297,28 +296,16 @@ func TestErrors(t *testing.T) {
 // heights 3.5–21.1 ft, all above 2.0 ft: none may be left out.
 func TestRatingReference(t *testing.T) {
 	ref := referenceDir(t)
-	rt, err := survey.ReadTable(filepath.Join(ref, "rating-01594440.csv"), "")
-	if err != nil {
-		t.Fatal(err)
-	}
 	var curve plotting.Curve
-	hc, _ := rt.Require("gauge_height")
-	qc, _ := rt.Require("discharge")
-	for _, rec := range rt.Records {
-		h, _, _ := rt.Float(rec, hc)
-		q, _, _ := rt.Float(rec, qc)
-		curve.Points = append(curve.Points, plotting.RatingPoint{Stage: h, Discharge: q})
+	rc, rows := csvTable(t, filepath.Join(ref, "rating-01594440.csv"))
+	for _, r := range rows {
+		curve.Points = append(curve.Points, plotting.RatingPoint{Stage: number(t, r[rc["gauge_height"]]), Discharge: number(t, r[rc["discharge"]])})
 	}
-	gt, err := survey.ReadTable(filepath.Join(ref, "gaugings-01594440.csv"), "")
-	if err != nil {
-		t.Fatal(err)
-	}
+	gc, rows := csvTable(t, filepath.Join(ref, "gaugings-01594440.csv"))
 	var gs []plotting.Gauging
-	hc, qc, kc := gt.Column("gauge_height"), gt.Column("discharge"), gt.Column("quality")
-	for _, rec := range gt.Records {
-		h, _, _ := gt.Float(rec, hc)
-		q, _, _ := gt.Float(rec, qc)
-		gs = append(gs, plotting.Gauging{Stage: h, Discharge: q, Quality: gt.Cell(rec, kc)})
+	for _, r := range rows {
+		q, _ := rating.ParseQuality(r[gc["quality"]])
+		gs = append(gs, plotting.Gauging{Stage: number(t, r[gc["gauge_height"]]), Discharge: number(t, r[gc["discharge"]]), Quality: q})
 	}
 	if len(gs) != 142 || len(curve.Points) != 11 {
 		t.Fatalf("read %d gaugings and %d breakpoints, want 142 and 11 (reference README)", len(gs), len(curve.Points))

@@ -49,31 +49,16 @@ type Gauging struct {
 	Stage float64
 	// Discharge is the measured flow (discharge unit).
 	Discharge float64
-	// Quality is the measurement's rated quality: "excellent", "good",
-	// "fair" or "poor" (any case); anything else is drawn as unrated.
-	Quality string
+	// Quality is the measurement's rated quality.
+	Quality rating.Quality
 }
 
-// Measurement-quality bands in percent of the measured discharge:
-// excellent within 2 %, good 5 %, fair 8 %, poor over 8 %. Source: the
-// agency bands quoted in ../shared/reference/README.md (USGS measurement
-// ratings). A poor gauging has no upper bound and gets no error bar.
-const (
-	BandExcellent = 2.0 // percent
-	BandGood      = 5.0 // percent
-	BandFair      = 8.0 // percent
-)
-
-// QualityBand returns the percent band of a quality name, and false for
-// poor or unknown qualities (no bounded band).
-func QualityBand(q string) (float64, bool) {
-	switch strings.ToLower(strings.TrimSpace(q)) {
-	case "excellent", "e":
-		return BandExcellent, true
-	case "good", "g":
-		return BandGood, true
-	case "fair", "f":
-		return BandFair, true
+// qualityBand returns the percent band of a gauging's quality, and false
+// for poor or unrated gaugings (no bounded band, no error bar).
+func qualityBand(q rating.Quality) (float64, bool) {
+	switch q {
+	case rating.Excellent, rating.Good, rating.Fair:
+		return q.BandPercent(), true
 	}
 	return 0, false
 }
@@ -440,28 +425,36 @@ func bandPolygon(b []BandPoint, e float64, logv bool) *plotter.Polygon {
 
 // gaugingStyle gives each quality its own shape, so a greyscale print
 // keeps them apart.
-func gaugingStyle(q string) (string, draw.GlyphStyle) {
+func gaugingStyle(q rating.Quality) draw.GlyphStyle {
 	r := vg.Points(4.2)
-	switch strings.ToLower(strings.TrimSpace(q)) {
-	case "excellent", "e":
-		return "excellent", draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.CircleGlyph{}}
-	case "good", "g":
-		return "good", draw.GlyphStyle{Color: colWater, Radius: r * 0.9, Shape: draw.BoxGlyph{}}
-	case "fair", "f":
-		return "fair", draw.GlyphStyle{Color: colBank, Radius: r * 1.1, Shape: draw.PyramidGlyph{}}
-	case "poor", "p":
-		return "poor", draw.GlyphStyle{Color: colFitted, Radius: r, Shape: draw.CrossGlyph{}}
+	switch q {
+	case rating.Excellent:
+		return draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.CircleGlyph{}}
+	case rating.Good:
+		return draw.GlyphStyle{Color: colWater, Radius: r * 0.9, Shape: draw.BoxGlyph{}}
+	case rating.Fair:
+		return draw.GlyphStyle{Color: colBank, Radius: r * 1.1, Shape: draw.PyramidGlyph{}}
+	case rating.Poor:
+		return draw.GlyphStyle{Color: colFitted, Radius: r, Shape: draw.CrossGlyph{}}
 	}
-	return "unrated", draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.RingGlyph{}}
+	return draw.GlyphStyle{Color: colInk, Radius: r, Shape: draw.RingGlyph{}}
 }
 
-var qualityOrder = []string{"excellent", "good", "fair", "poor", "unrated"}
+// qualityOrder is the order of the gaugings' legend entries.
+var qualityOrder = [...]rating.Quality{rating.Excellent, rating.Good, rating.Fair, rating.Poor, rating.Unrated}
+
+// qualityName names a quality in the legend.
+func qualityName(q rating.Quality) string {
+	if q == rating.Unrated {
+		return "unrated"
+	}
+	return q.String()
+}
 
 // addGaugings draws the gaugings grouped by quality, each with its
 // quality band as a horizontal bar. It returns the number drawn.
 func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
-	groups := map[string]plotter.XYs{}
-	styles := map[string]draw.GlyphStyle{}
+	groups := map[rating.Quality]plotter.XYs{}
 	var bars []hbar
 	n := 0
 	for _, g := range gs {
@@ -472,10 +465,13 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 				continue
 			}
 		}
-		name, st := gaugingStyle(g.Quality)
-		groups[name] = append(groups[name], plotter.XY{X: g.Discharge, Y: y})
-		styles[name] = st
-		if pct, ok := QualityBand(g.Quality); ok {
+		q := g.Quality
+		if q.String() == "" {
+			q = rating.Unrated
+		}
+		st := gaugingStyle(q)
+		groups[q] = append(groups[q], plotter.XY{X: g.Discharge, Y: y})
+		if pct, ok := qualityBand(q); ok {
 			bars = append(bars, hbar{y: y, x0: g.Discharge * (1 - pct/100), x1: g.Discharge * (1 + pct/100), color: st.Color})
 		}
 		n++
@@ -492,10 +488,10 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 		if err != nil {
 			continue
 		}
-		s.GlyphStyle = styles[q]
+		s.GlyphStyle = gaugingStyle(q)
 		p.Add(s)
-		label := "gauging, " + q
-		if pct, ok := QualityBand(q); ok {
+		label := "gauging, " + qualityName(q)
+		if pct, ok := qualityBand(q); ok {
 			label += fmt.Sprintf(" (±%g %%)", pct)
 		}
 		if !logv {

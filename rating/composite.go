@@ -32,12 +32,14 @@ const (
 	Lotter
 )
 
-// CompositeNames are the accepted names, in order of the constants.
-var CompositeNames = []string{"split", "horton", "pavlovskii", "lotter"}
+// CompositeNames returns the accepted names, in order of the constants.
+func CompositeNames() []string {
+	return []string{"split", "horton", "pavlovskii", "lotter"}
+}
 
 func (c Composite) String() string {
-	if c >= 0 && int(c) < len(CompositeNames) {
-		return CompositeNames[c]
+	if c >= 0 && int(c) < len(CompositeNames()) {
+		return CompositeNames()[c]
 	}
 	return fmt.Sprintf("Composite(%d)", int(c))
 }
@@ -55,7 +57,7 @@ func ParseComposite(s string) (Composite, error) {
 	case "lotter":
 		return Lotter, nil
 	}
-	return Split, fmt.Errorf("composite roughness %q: want one of %s", s, strings.Join(CompositeNames, ", "))
+	return Split, fmt.Errorf("composite roughness %q: want one of %s", s, strings.Join(CompositeNames(), ", "))
 }
 
 // CompositeN returns the equivalent n of parts with wetted perimeters p,

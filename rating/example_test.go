@@ -59,3 +59,16 @@ func ExampleStageForArea() {
 	fmt.Printf("%.4f m\n", r.Depth)
 	// Output: 1.6085 m
 }
+
+// A lookup table starts at the tenth at or below the lowest ground and
+// steps by hundredths.
+func ExampleLookupStages() {
+	stages, err := rating.LookupStages(100.34, 100.52)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(len(stages), stages[0], stages[1], stages[len(stages)-1])
+	// Output:
+	// 23 100.3 100.31 100.52
+}

@@ -65,18 +65,18 @@ func (e *ParseError) Position() string {
 
 func (e *ParseError) Unwrap() error { return e.Err }
 
-// Causes, for errors.Is.
+// Causes, for errors.Is. Causes that concern the geometry of a section
+// are subdivide's own (subdivide.ErrOverhang, subdivide.ErrTooFewPoints,
+// subdivide.ErrNotFinite), so errors.Is finds them however the section
+// was read.
 var (
 	ErrNotNumber     = errors.New("not a number")
 	ErrDecimalComma  = errors.New("decimal comma: write numbers with a decimal point")
-	ErrNotFinite     = errors.New("not a finite number")
 	ErrMissingColumn = errors.New("missing column")
 	ErrEmpty         = errors.New("no data rows")
 	ErrSemicolon     = errors.New("the file is separated by semicolons; save it as comma-separated values with decimal points")
 	ErrBankMarks     = errors.New("exactly two points must be marked bank")
 	ErrNotPositive   = errors.New("must be a positive number")
-	ErrOverhang      = errors.New("station is less than the one before (an overhang)")
-	ErrTooFew        = errors.New("a section needs at least two points")
 )
 
 // MaxReported bounds how many row errors one file reports.

@@ -4,10 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"strings"
-	"time"
-
-	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -23,9 +19,11 @@ const (
 	ColGaugingQuality   = "quality"
 )
 
-// GaugingsSheet is the sheet a workbook's gaugings are read from when no
-// sheet is named and the workbook has a sheet of that name.
-const GaugingsSheet = "gaugings"
+// GaugingColumns returns the columns of a gaugings table in their usual
+// order, as the field workbook's gaugings sheet has them.
+func GaugingColumns() []string {
+	return []string{ColGaugingTime, ColGaugingStage, ColGaugingDischarge, ColGaugingQuality, ColNote}
+}
 
 // Gaugings is a list of discharge measurements read from a file.
 type Gaugings struct {
@@ -40,80 +38,14 @@ type Gaugings struct {
 // Causes of gauging errors, for errors.Is.
 var (
 	ErrNegativeDischarge = errors.New("discharge must not be negative")
-	ErrBadTime           = errors.New("not a date-time: write ISO 8601 (2024-03-05T14:30 or 2024-03-05)")
 	ErrDuplicateTime     = errors.New("duplicate time")
-	ErrSerialInCSV       = errors.New("a bare number is a date only in a workbook cell: write ISO 8601 in a CSV file")
 )
-
-// timeLayouts are the ISO 8601 forms a time cell may take.
-var timeLayouts = []string{
-	time.RFC3339Nano,
-	"2006-01-02T15:04:05Z07:00",
-	"2006-01-02T15:04Z07:00",
-	"2006-01-02T15:04:05",
-	"2006-01-02T15:04",
-	"2006-01-02 15:04:05Z07:00",
-	"2006-01-02 15:04:05",
-	"2006-01-02 15:04",
-	"2006-01-02",
-}
-
-// MinDateSerial and MaxDateSerial bound a workbook date serial taken as a
-// time (1900-01-01 to 9999-12-31 in the 1900 date system).
-const (
-	MinDateSerial = 1
-	MaxDateSerial = 2958465
-)
-
-// ParseGaugingTime reads a gauging time: ISO 8601 text, or, for a cell of a
-// workbook (inWorkbook), the workbook's date serial number in its date
-// system (date1904).
-func ParseGaugingTime(s string, inWorkbook, date1904 bool) (time.Time, error) {
-	s = strings.TrimSpace(s)
-	for _, l := range timeLayouts {
-		if t, err := time.Parse(l, s); err == nil {
-			return t, nil
-		}
-	}
-	v, err := ParseNumber(s)
-	if err != nil {
-		return time.Time{}, ErrBadTime
-	}
-	if !inWorkbook {
-		return time.Time{}, ErrSerialInCSV
-	}
-	if v < MinDateSerial || v > MaxDateSerial {
-		return time.Time{}, fmt.Errorf("%w (date serial %g is out of range)", ErrBadTime, v)
-	}
-	t, err := excelize.ExcelDateToTime(v, date1904)
-	if err != nil {
-		return time.Time{}, fmt.Errorf("%w (%v)", ErrBadTime, err)
-	}
-	return t, nil
-}
 
 // ReadGaugings reads gaugings from a CSV file or a workbook sheet. For a
-// workbook with no sheet named, the sheet GaugingsSheet is read if present,
+// workbook with no sheet named, the sheet FieldSheetGaugings is read if present,
 // else the first sheet.
 func ReadGaugings(path, sheet string) (Gaugings, error) {
-	if IsWorkbook(path) && sheet == "" {
-		f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
-		if err != nil {
-			return Gaugings{}, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
-		}
-		defer f.Close()
-		for _, s := range f.GetSheetList() {
-			if strings.EqualFold(s, GaugingsSheet) {
-				sheet = s
-			}
-		}
-		t, err := SheetTable(f, path, sheet)
-		if err != nil {
-			return Gaugings{}, err
-		}
-		return GaugingsFromTable(t)
-	}
-	t, err := ReadTable(path, sheet)
+	t, err := readTable(path, sheet, FieldSheetGaugings)
 	if err != nil {
 		return Gaugings{}, err
 	}
@@ -176,7 +108,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		if s := t.Cell(rec, ct); s == "" {
 			add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
 			okAll = false
-		} else if tm, err := ParseGaugingTime(s, t.Sheet != "", t.Date1904); err != nil {
+		} else if tm, err := ParseTime(s, t.Sheet != "", t.Date1904); err != nil {
 			add(rec, ct, err)
 			okAll = false
 		} else {

@@ -9,8 +9,6 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/xuri/excelize/v2"
-
 	"wetline/rating"
 	"wetline/rating/reach"
 	"wetline/subdivide"
@@ -28,8 +26,10 @@ const (
 	ReachColQuality  = "quality"
 )
 
-// ReachColumns lists the columns of a reach table in their usual order.
-var ReachColumns = []string{ReachColSection, ReachColSurvey, ReachColDistance, ReachColWSLeft, ReachColWSRight, ReachColQuality, ColNote}
+// ReachColumns returns the columns of a reach table in their usual order.
+func ReachColumns() []string {
+	return []string{ReachColSection, ReachColSurvey, ReachColDistance, ReachColWSLeft, ReachColWSRight, ReachColQuality, ColNote}
+}
 
 // Causes of reach-table errors, for errors.Is.
 var (
@@ -88,15 +88,7 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 	if err != nil {
 		return nil, err
 	}
-	var sheets []string
-	if IsWorkbook(path) {
-		f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
-		if err != nil {
-			return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
-		}
-		sheets = f.GetSheetList()
-		f.Close()
-	}
+	sheets := t.Sheets
 	r, err := ReachFromTable(t)
 	if err != nil {
 		return nil, err
@@ -141,7 +133,7 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 // surveys. Every bad cell is reported, each naming its row and column.
 func ReachFromTable(t *Table) (*Reach, error) {
 	r := &Reach{File: t.File, Sheet: t.Sheet, t: t, cols: map[string]int{}}
-	for _, name := range ReachColumns[:5] {
+	for _, name := range ReachColumns()[:5] {
 		c, err := t.Require(name)
 		if err != nil {
 			return nil, err
@@ -151,7 +143,7 @@ func ReachFromTable(t *Table) (*Reach, error) {
 	r.cols[ReachColQuality] = t.Column(ReachColQuality)
 	r.cols[ColNote] = t.Column(ColNote)
 	for i, h := range t.Header {
-		if h != "" && !slices.ContainsFunc(ReachColumns, func(c string) bool { return t.Column(c) == i }) {
+		if h != "" && !slices.ContainsFunc(ReachColumns(), func(c string) bool { return t.Column(c) == i }) {
 			r.Warnings = append(r.Warnings, fmt.Sprintf("%s: column %q is not used", where(t, t.HeaderRow), h))
 		}
 	}
@@ -268,7 +260,7 @@ func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 			return nil, &ParseError{File: sv.File, Sheet: sv.Sheet, Err: err}
 		}
 		out[i] = reach.Section{ID: row.ID, Geometry: g, Distance: row.Distance,
-			Left: row.WSLeft, Right: row.WSRight}
+			Left: row.WSLeft, Right: row.WSRight, Survey: row.Survey, Quality: row.Quality, Note: row.Note}
 		out[i].MarkSD, _ = row.Quality.MarkSD(u)
 	}
 	return out, nil

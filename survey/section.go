@@ -124,7 +124,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 		}
 		i := len(sv.Section.Points)
 		if i > 0 && okx && x < sv.Section.Points[i-1].Station {
-			add(rec, cs, ErrOverhang)
+			add(rec, cs, subdivide.ErrOverhang)
 		}
 		sv.Section.Points = append(sv.Section.Points, subdivide.Point{Station: x, Elevation: z})
 		ns = append(ns, nCur)
@@ -143,7 +143,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	}
 	pts := sv.Section.Points
 	if len(pts) < 2 {
-		return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: fmt.Errorf("%w, found %d", ErrTooFew, len(pts))}
+		return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: fmt.Errorf("%w, found %d", subdivide.ErrTooFewPoints, len(pts))}
 	}
 	if pts[len(pts)-1].Station == pts[0].Station {
 		return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.Records[len(t.Records)-1].Row, Column: cs + 1, Name: t.Header[cs],

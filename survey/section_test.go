@@ -4,6 +4,7 @@ import (
 	"errors"
 	"strings"
 	"testing"
+	"wetline/subdivide"
 )
 
 func TestParseSectionGood(t *testing.T) {
@@ -38,14 +39,14 @@ func TestParseSectionErrors(t *testing.T) {
 	}{
 		{"decimal comma", "station,elevation\n0,1\n1,\"0,5\"\n", `xs.csv:3:2: elevation "0,5": decimal comma`, ErrDecimalComma},
 		{"not a number", "station,elevation\n0,1\nabc,0\n", `xs.csv:3:1: station "abc": not a number`, ErrNotNumber},
-		{"nan", "station,elevation\n0,1\n1,NaN\n", `xs.csv:3:2: elevation "NaN": not a finite number`, ErrNotFinite},
-		{"inf", "station,elevation\n0,1\n1,+Inf\n", `xs.csv:3:2`, ErrNotFinite},
+		{"nan", "station,elevation\n0,1\n1,NaN\n", `xs.csv:3:2: elevation "NaN": value is not a finite number`, subdivide.ErrNotFinite},
+		{"inf", "station,elevation\n0,1\n1,+Inf\n", `xs.csv:3:2`, subdivide.ErrNotFinite},
 		{"blank elevation", "station,elevation\n0,1\n1,\n", `xs.csv:3:2`, ErrNotNumber},
-		{"one point", "station,elevation\n0,1\n", `xs.csv:1: a section needs at least two points`, ErrTooFew},
+		{"one point", "station,elevation\n0,1\n", `xs.csv:1: a section needs at least two points`, subdivide.ErrTooFewPoints},
 		{"missing column", "station,height\n0,1\n1,0\n", `xs.csv:1: elevation: missing column`, ErrMissingColumn},
 		{"n zero", "station,elevation,n\n0,1,0\n1,0,0.03\n", `xs.csv:2:3: n "0": roughness must be a positive number`, ErrNotPositive},
 		{"n negative", "station,elevation,n\n0,1,0.03\n1,0,-0.03\n2,1,\n", `xs.csv:3:3`, ErrNotPositive},
-		{"overhang", "station,elevation\n0,1\n2,0\n1,1\n", `xs.csv:4:1: station "1": station is less than the one before`, ErrOverhang},
+		{"overhang", "station,elevation\n0,1\n2,0\n1,1\n", `xs.csv:4:1: station "1": station decreases (an overhang)`, subdivide.ErrOverhang},
 		{"three banks", "station,elevation,mark\n0,1,bank\n1,0,bank\n2,1,bank\n", `xs.csv:4:3`, ErrBankMarks},
 		{"one bank", "station,elevation,mark\n0,1,bank\n1,0,\n2,1,\n", `xs.csv:2:3`, ErrBankMarks},
 		{"empty file", "", `xs.csv: empty file`, nil},

@@ -13,6 +13,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"wetline/subdivide"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -29,6 +30,9 @@ type Table struct {
 	Records []Record
 	// Date1904 is the workbook's date system (false for CSV).
 	Date1904 bool
+	// Sheets lists every sheet of the workbook the table was read from
+	// (nil for CSV).
+	Sheets []string
 }
 
 // Record is one data row and its 1-based line (CSV) or row (sheet).
@@ -52,16 +56,26 @@ const MaxWorkbookBytes = 1 << 30
 // ReadTable reads a table from a CSV file, or from a sheet of a workbook
 // (by extension; sheet "" is the first sheet).
 func ReadTable(path, sheet string) (*Table, error) {
+	return readTable(path, sheet, "")
+}
+
+// readTable is ReadTable; in a workbook with no sheet named, a sheet named
+// prefer (any case) is read when there is one.
+func readTable(path, sheet, prefer string) (*Table, error) {
 	if IsWorkbook(path) {
-		if err := checkWorkbookFile(path); err != nil {
-			return nil, &ParseError{File: path, Err: err}
-		}
-		f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
+		f, err := openWorkbook(path)
 		if err != nil {
-			return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+			return nil, err
 		}
 		defer f.Close()
-		return SheetTable(f, path, sheet)
+		if sheet == "" && prefer != "" {
+			for _, s := range f.GetSheetList() {
+				if strings.EqualFold(s, prefer) {
+					sheet = s
+				}
+			}
+		}
+		return sheetTable(f, path, sheet)
 	}
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
@@ -71,6 +85,24 @@ func ReadTable(path, sheet string) (*Table, error) {
 		return nil, err
 	}
 	return ParseCSV(bytes.NewReader(data), path)
+}
+
+// workbookOptions are the options every workbook is opened with: cells
+// read raw (numbers as written, dates as serials), unpacked size bounded.
+var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes}
+
+// openWorkbook opens a workbook file for reading. Every reader of a
+// workbook file opens it here, so the zip directory is always checked
+// first (CheckWorkbookZip).
+func openWorkbook(path string) (*excelize.File, error) {
+	if err := checkWorkbookFile(path); err != nil {
+		return nil, &ParseError{File: path, Err: err}
+	}
+	f, err := excelize.OpenFile(path, workbookOptions)
+	if err != nil {
+		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+	}
+	return f, nil
 }
 
 // ParseCSV reads a comma-separated table. Lines starting with '#' are
@@ -122,9 +154,9 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	return t, nil
 }
 
-// SheetTable reads a table from a sheet of an open workbook (sheet "" is
+// sheetTable reads a table from a sheet of an open workbook (sheet "" is
 // the first). Cells are read raw: numbers as written, dates as serials.
-func SheetTable(f *excelize.File, path, sheet string) (*Table, error) {
+func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	if sheet == "" {
 		if len(sheets) == 0 {
@@ -134,7 +166,7 @@ func SheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	} else if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
 	}
-	t := &Table{File: path, Sheet: sheet}
+	t := &Table{File: path, Sheet: sheet, Sheets: sheets}
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
 		t.Date1904 = *props.Date1904
 	}
@@ -273,7 +305,7 @@ func ParseNumber(s string) (float64, error) {
 		return 0, ErrNotNumber
 	}
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, ErrNotFinite
+		return 0, subdivide.ErrNotFinite
 	}
 	return v, nil
 }
@@ -281,9 +313,9 @@ func ParseNumber(s string) (float64, error) {
 // SectionSheets lists the sheets of a workbook that hold a survey: those
 // whose header row has station and elevation columns, in workbook order.
 func SectionSheets(path string) ([]string, error) {
-	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
+	f, err := openWorkbook(path)
 	if err != nil {
-		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+		return nil, err
 	}
 	defer f.Close()
 	var out []string

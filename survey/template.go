@@ -47,23 +47,13 @@ const (
 // SectionSheetName names the i-th (1-based) cross-section sheet: "XS-1".
 func SectionSheetName(i int) string { return fmt.Sprintf("XS-%d", i) }
 
-// Column names of the reach and gaugings sheets of a field workbook, in
-// order (matched case-insensitively, a bracketed unit after the name
-// allowed). They are the contract between the field workbook and the
-// commands reading it; add columns after them, never between.
-var (
-	FieldReachColumns   = []string{"section", "survey", "distance", "ws_left", "ws_right", "quality", "note"}
-	FieldGaugingColumns = []string{"time", "stage", "discharge", "quality", "note"}
-)
-
-// FieldQualities are the grades of a gauging or a high-water mark, best
-// first.
-var FieldQualities = []string{"excellent", "good", "fair", "poor"}
-
-// SuggestedMarks are offered in the mark column's drop-down list. Only
+// SuggestedMarks returns the labels offered in the mark column's
+// drop-down list. Only
 // MarkBank means anything to the reader; any other label may be typed and
 // is kept with the point.
-var SuggestedMarks = []string{MarkBank, "thalweg", "water edge", "pin", "high-water mark"}
+func SuggestedMarks() []string {
+	return []string{MarkBank, "thalweg", "water edge", "pin", "high-water mark"}
+}
 
 // Bounds of the template's numeric validation rules. They catch typing
 // slips (a missing decimal point), not unusual sites.
@@ -219,7 +209,7 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "ground elevation above the gauge datum"},
 		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
-		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks, false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
+		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks(), false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
@@ -228,27 +218,27 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: FieldReachColumns[0], Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
-		{Column: workbook.Column{Name: FieldReachColumns[1], Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
-		{Column: workbook.Column{Name: FieldReachColumns[2], Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
-		{Column: workbook.Column{Name: FieldReachColumns[3], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
-		{Column: workbook.Column{Name: FieldReachColumns[4], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
-		{Column: workbook.Column{Name: FieldReachColumns[5], Format: workbook.FormatText, Width: 12}, Rule: listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")), Help: "how well the marks define the water surface"},
-		{Column: workbook.Column{Name: FieldReachColumns[6], Format: workbook.FormatText, Width: 36}},
+		{Column: workbook.Column{Name: ReachColumns()[0], Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
+		{Column: workbook.Column{Name: ReachColumns()[1], Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
+		{Column: workbook.Column{Name: ReachColumns()[2], Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
+		{Column: workbook.Column{Name: ReachColumns()[3], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
+		{Column: workbook.Column{Name: ReachColumns()[4], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
+		{Column: workbook.Column{Name: ReachColumns()[5], Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "how well the marks define the water surface"},
+		{Column: workbook.Column{Name: ReachColumns()[6], Format: workbook.FormatText, Width: 36}},
 	}
 }
 
 func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	L, Q := u.Length(), u.Discharge()
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: FieldGaugingColumns[0], Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
+		{Column: workbook.Column{Name: GaugingColumns()[0], Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
 			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
-		{Column: workbook.Column{Name: FieldGaugingColumns[1], Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
+		{Column: workbook.Column{Name: GaugingColumns()[1], Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
 			fmt.Sprintf("a gauge height in %s, with a decimal point", L)), Help: "mean gauge height during the measurement"},
-		{Column: workbook.Column{Name: FieldGaugingColumns[2], Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
+		{Column: workbook.Column{Name: GaugingColumns()[2], Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
 			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
-		{Column: workbook.Column{Name: FieldGaugingColumns[3], Format: workbook.FormatText, Width: 12}, Rule: listRule(FieldQualities, true, "quality: one of "+strings.Join(FieldQualities, ", ")), Help: "measurement grade"},
-		{Column: workbook.Column{Name: FieldGaugingColumns[4], Format: workbook.FormatText, Width: 36}},
+		{Column: workbook.Column{Name: GaugingColumns()[3], Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},
+		{Column: workbook.Column{Name: GaugingColumns()[4], Format: workbook.FormatText, Width: 36}},
 	}
 }
 
@@ -268,9 +258,9 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 			"Add sheets by copying one; the sheet name is the section's name."},
 		{FieldSheetReach, "One row per section of a slope-area reach. section: its id; survey: the sheet (or file) with its survey; " +
 			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
-			"on each bank from the high-water marks; quality: " + strings.Join(FieldQualities, ", ") + "."},
+			"on each bank from the high-water marks; quality: " + strings.Join(rating.QualityWords(), ", ") + "."},
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
-			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(FieldQualities, ", ") + ")."},
+			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + ")."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
 		{"caution", rating.Caution},
 	}

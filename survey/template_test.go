@@ -14,6 +14,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
+	"wetline/subdivide"
 	"wetline/survey"
 )
 
@@ -194,8 +195,8 @@ func TestTemplateEmptyReads(t *testing.T) {
 		}
 	}
 	_, err := survey.ReadSection(path, "XS-1", survey.SectionOptions{})
-	if !errors.Is(err, survey.ErrTooFew) {
-		t.Errorf("blank section: %v, want ErrTooFew", err)
+	if !errors.Is(err, subdivide.ErrTooFewPoints) {
+		t.Errorf("blank section: %v, want ErrTooFewPoints", err)
 	}
 }
 
@@ -277,7 +278,7 @@ func TestFilledTemplateReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	ct, cs := tab.Column(survey.FieldGaugingColumns[0]), tab.Column(survey.FieldGaugingColumns[1])
+	ct, cs := tab.Column(survey.GaugingColumns()[0]), tab.Column(survey.GaugingColumns()[1])
 	want := []time.Time{dt, time.Date(2026, 4, 2, 16, 45, 0, 0, time.UTC)}
 	for i, w := range want {
 		got, ok, err := tab.Time(tab.Records[i], ct)
@@ -290,7 +291,7 @@ func TestFilledTemplateReads(t *testing.T) {
 	}
 	_, _, err = tab.Time(tab.Records[2], ct)
 	var pe *survey.ParseError
-	if !errors.As(err, &pe) || !errors.Is(err, survey.ErrNotTime) {
+	if !errors.As(err, &pe) || !errors.Is(err, survey.ErrBadTime) {
 		t.Fatalf("day-first date: %v, want ErrNotTime", err)
 	}
 	if want := "field.xlsx['gaugings']!A5"; !strings.HasSuffix(pe.Position(), want) {
@@ -335,6 +336,15 @@ func TestWorkbookCellErrors(t *testing.T) {
 	}
 }
 
+// A bare number in a CSV file is no date: only a workbook cell holds
+// serials.
+func TestTableTimeSerialInCSV(t *testing.T) {
+	tab := &survey.Table{File: "g.csv", Header: []string{"time"}, Records: []survey.Record{{Row: 2, Cells: []string{"45000"}}}}
+	if _, _, err := tab.Time(tab.Records[0], 0); !errors.Is(err, survey.ErrSerialInCSV) {
+		t.Errorf("serial in CSV: %v, want ErrSerialInCSV", err)
+	}
+}
+
 func TestTableTime(t *testing.T) {
 	// Serial day numbers per ECMA-376 Part 1, 18.17.4.1: in the 1900 date
 	// system day 1 is 1900-01-01 and, because of the phantom 1900-02-29,
@@ -355,12 +365,12 @@ func TestTableTime(t *testing.T) {
 		{"2026-03-14T09:30:15", false, time.Date(2026, 3, 14, 9, 30, 15, 0, time.UTC), nil},
 		{"2026-03-14T09:30:00-05:00", false, time.Date(2026, 3, 14, 14, 30, 0, 0, time.UTC), nil},
 		{"2026-03-14", false, time.Date(2026, 3, 14, 0, 0, 0, 0, time.UTC), nil},
-		{"03/14/2026", false, time.Time{}, survey.ErrNotTime},
-		{"-3", false, time.Time{}, survey.ErrNotTime},
-		{"1e9", false, time.Time{}, survey.ErrNotTime},
-		{"NaN", false, time.Time{}, survey.ErrNotTime},
+		{"03/14/2026", false, time.Time{}, survey.ErrBadTime},
+		{"-3", false, time.Time{}, survey.ErrBadTime},
+		{"1e9", false, time.Time{}, survey.ErrBadTime},
+		{"NaN", false, time.Time{}, survey.ErrBadTime},
 	} {
-		tab := &survey.Table{File: "g.csv", Header: []string{"time"}, Date1904: tc.date1904,
+		tab := &survey.Table{File: "g.xlsx", Sheet: "gaugings", Header: []string{"time"}, Date1904: tc.date1904,
 			Records: []survey.Record{{Row: 2, Cells: []string{tc.cell}}}}
 		got, ok, err := tab.Time(tab.Records[0], 0)
 		if tc.err != nil {
@@ -407,7 +417,7 @@ func TestTemplatePrefilled(t *testing.T) {
 	if err != nil || len(dvs) == 0 || dvs[0].Sqref != "A2:A"+strconv.Itoa(len(orig.Section.Points)+1) {
 		t.Errorf("rules %v %v", dvs, err)
 	}
-	if _, err := survey.ReadSection(path, "XS-3", survey.SectionOptions{}); !errors.Is(err, survey.ErrTooFew) {
+	if _, err := survey.ReadSection(path, "XS-3", survey.SectionOptions{}); !errors.Is(err, subdivide.ErrTooFewPoints) {
 		t.Errorf("XS-3 should be blank: %v", err)
 	}
 }

@@ -10,7 +10,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-	"time"
+	"wetline/survey/output"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -76,7 +76,7 @@ func TestBatchFolder(t *testing.T) {
 	in := batchInputs(t, "a1", "b2", "bad", "c3")
 	out := filepath.Join(t.TempDir(), "ratings")
 	var stdout, stderr bytes.Buffer
-	e := &env{stdout: &stdout, stderr: &stderr}
+	e := newEnv(&stdout, &stderr, commandTable())
 	err := runArgs(t, e, "rate", in, "--slope", "0.001", "-o", out)
 	if err == nil || !strings.Contains(err.Error(), "1 of 4 sections failed") {
 		t.Fatalf("err = %v, want a count of failed sections", err)
@@ -131,7 +131,7 @@ func TestBatchFolder(t *testing.T) {
 func TestBatchLong(t *testing.T) {
 	in := batchInputs(t, "z9", "a1")
 	var stdout, stderr bytes.Buffer
-	e := &env{stdout: &stdout, stderr: &stderr}
+	e := newEnv(&stdout, &stderr, commandTable())
 	err := runArgs(t, e, "rate", filepath.Join(in, "z9.csv"), filepath.Join(in, "a1.csv"),
 		"--slope", "0.001", "--long", "--from", "0", "--to", "5", "--step", "1")
 	if err != nil {
@@ -181,7 +181,7 @@ func TestBatchWorkbookSheets(t *testing.T) {
 	}
 	out := filepath.Join(dir, "out")
 	var stdout, stderr bytes.Buffer
-	if err := runArgs(t, &env{stdout: &stdout, stderr: &stderr}, "rate", book, "--all-sheets", "--slope", "0.002", "-o", out); err != nil {
+	if err := runArgs(t, newEnv(&stdout, &stderr, commandTable()), "rate", book, "--all-sheets", "--slope", "0.002", "-o", out); err != nil {
 		t.Fatal(err, stderr.String())
 	}
 	idx := readCSV(t, filepath.Join(out, "index.csv"))
@@ -192,12 +192,10 @@ func TestBatchWorkbookSheets(t *testing.T) {
 
 // TestBatchProgress shows a progress line on a terminal.
 func TestBatchProgress(t *testing.T) {
-	defer func(d, ev time.Duration) { progressDelay, progressEvery = d, ev }(progressDelay, progressEvery)
-	progressDelay, progressEvery = 0, 0
 	in := batchInputs(t, "a", "b", "c")
 	for _, tty := range []bool{true, false} {
 		var stdout, stderr bytes.Buffer
-		err := runArgs(t, &env{stdout: &stdout, stderr: &stderr, stderrTTY: tty}, "rate", in, "--slope", "0.001", "--long")
+		err := runArgs(t, ttyEnv(&stdout, &stderr, tty), "rate", in, "--slope", "0.001", "--long")
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -221,7 +219,7 @@ func TestBatchUsage(t *testing.T) {
 	}
 	for _, tt := range tests {
 		var out bytes.Buffer
-		err := runArgs(t, &env{stdout: &out, stderr: &out}, tt.args...)
+		err := runArgs(t, newEnv(&out, &out, commandTable()), tt.args...)
 		var ue usageError
 		if !errors.As(err, &ue) || !strings.Contains(err.Error(), tt.want) {
 			t.Errorf("%v: err %v, want a usage error with %q", tt.args, err, tt.want)
@@ -229,13 +227,14 @@ func TestBatchUsage(t *testing.T) {
 	}
 }
 
-// TestBatchRefusesInputs keeps an input that the output folder would
-// replace.
+// TestBatchRefusesInputs: a batch told to write into its input folder
+// (which it would replace whole) is refused before anything is written,
+// and the folder is left as it was.
 func TestBatchRefusesInputs(t *testing.T) {
 	in := batchInputs(t, "a", "b")
 	before, _ := os.ReadFile(filepath.Join(in, "a.csv"))
 	var out bytes.Buffer
-	err := runArgs(t, &env{stdout: &out, stderr: &out}, "rate", in, "--slope", "0.001", "-o", in)
+	err := runArgs(t, newEnv(&out, &out, commandTable()), "rate", in, "--slope", "0.001", "-o", in)
 	if err == nil {
 		t.Fatal("writing tables over the inputs succeeded")
 	}
@@ -243,9 +242,15 @@ func TestBatchRefusesInputs(t *testing.T) {
 	if !bytes.Equal(before, after) {
 		t.Errorf("input changed")
 	}
-	idx := readCSV(t, filepath.Join(in, "index.csv"))
-	if !strings.Contains(idx[1][len(idx[1])-1], "refusing to write over an input") {
-		t.Errorf("index %v", idx)
+	if !errors.Is(err, output.ErrInput) || !strings.Contains(err.Error(), in) {
+		t.Errorf("err = %v, want ErrInput naming the folder", err)
+	}
+	if _, err := os.Stat(filepath.Join(in, "index.csv")); !os.IsNotExist(err) {
+		t.Errorf("an index was written into the input folder: %v", err)
+	}
+	ents, _ := os.ReadDir(filepath.Dir(in))
+	if len(ents) != 1 {
+		t.Errorf("left beside the input folder: %v", ents)
 	}
 }
 
@@ -254,7 +259,7 @@ func TestBatchRefusesInputs(t *testing.T) {
 func TestDemoBatch(t *testing.T) {
 	dir := t.TempDir()
 	var out bytes.Buffer
-	if err := runArgs(t, &env{stdout: &out, stderr: &out}, "demo", "-o", dir); err != nil {
+	if err := runArgs(t, newEnv(&out, &out, commandTable()), "demo", "-o", dir); err != nil {
 		t.Fatal(err, out.String())
 	}
 	idx := readCSV(t, filepath.Join(dir, "tallow-reach-ratings", "index.csv"))
@@ -273,7 +278,7 @@ func TestDemoBatch(t *testing.T) {
 func TestBatchMissingFile(t *testing.T) {
 	in := batchInputs(t, "a")
 	var stdout, stderr bytes.Buffer
-	err := runArgs(t, &env{stdout: &stdout, stderr: &stderr}, "rate", filepath.Join(in, "a.csv"), filepath.Join(in, "gone.csv"),
+	err := runArgs(t, newEnv(&stdout, &stderr, commandTable()), "rate", filepath.Join(in, "a.csv"), filepath.Join(in, "gone.csv"),
 		"--slope", "0.001", "--long")
 	if err == nil || !strings.Contains(err.Error(), "1 of 2 sections failed") {
 		t.Fatalf("err = %v", err)

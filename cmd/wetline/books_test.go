@@ -248,13 +248,13 @@ func TestFitResultsWorkbook(t *testing.T) {
 	// highest gauging the hydraulic rating at elevation h + datum times the
 	// scale factor (Kennedy, 1984, USGS TWRI 3-A10, as the table's doc
 	// says).
-	l, err := (&sectionFlags{units: "si"}).load(fitDemoSurvey)
+	p, err := survey.Prepare(survey.SectionRequest{Path: fitDemoSurvey})
 	if err != nil {
 		t.Fatal(err)
 	}
 	rule := func(h float64) float64 {
 		if h > high {
-			tab, err := rating.Compute(l.geom, []float64{h + 100}, rating.Options{Slope: 0.0012, Units: rating.SI, Geometry: l.geomOpt})
+			tab, err := rating.Compute(p.Geometry, []float64{h + 100}, rating.Options{Slope: 0.0012, Units: rating.SI})
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -1,50 +1,101 @@
 package main
 
 import (
+	"bufio"
+	"fmt"
 	"io"
-	"wetline/survey/output"
+	"path/filepath"
+
+	"wetline/rating"
+	"wetline/survey/results"
 )
 
-// delivery is what a command hands back: its report, to standard output or
-// written whole to a file, then any figures into their folder.
+// delivery is what a command hands back: its report, to standard output
+// or to a file, and its figures into a folder. Every destination is
+// checked before the first is written; files reach their places only
+// when all are written.
 type delivery struct {
-	output string   // report file; "" for standard output
+	output string   // report file; "" or "-" for standard output
 	inputs []string // files read, never written over
 	write  func(io.Writer) error
-	// inline reports that the report carries its warnings itself (the text
-	// formats); otherwise they go to standard error after a report on
-	// standard output.
+	// inline reports that the report carries its warnings and the caution
+	// itself (text and JSON); otherwise, on standard output, they go to
+	// standard error after it.
 	inline   bool
 	warnings []string
 	plots    string // folder for the figures; "" for none
-	figs     []figureFile
+	figs     []rating.Figure
 	// summary prints the console summary after the report file is written.
-	summary func(w io.Writer)
+	summary func(w io.Writer) error
 }
 
-// deliver writes the report, then the figures, never over an input or the
-// report itself.
-func (d delivery) deliver(e *env) error {
-	if d.output == "" {
+// toStdout reports whether the report goes to standard output.
+func (d delivery) toStdout() bool { return d.output == "" || d.output == "-" }
+
+// deliver writes the report and the figures, then commits them.
+func (e *env) deliver(d delivery) error {
+	f := e.files
+	f.Protect(d.inputs...)
+	var figPaths []string
+	if d.plots != "" {
+		for _, fig := range d.figs {
+			figPaths = append(figPaths, filepath.Join(d.plots, fig.Name))
+		}
+	}
+	if !d.toStdout() {
+		if err := f.Check(d.output); err != nil {
+			return err
+		}
+	}
+	for _, p := range figPaths {
+		if err := f.Check(p); err != nil {
+			return err
+		}
+	}
+	if !d.toStdout() {
+		if err := f.Write(d.output, d.write); err != nil {
+			return err
+		}
+	}
+	for i, p := range figPaths {
+		png := d.figs[i].PNG
+		if err := f.Write(p, func(w io.Writer) error { _, err := w.Write(png); return err }); err != nil {
+			return err
+		}
+	}
+	if d.toStdout() {
 		if err := d.write(e.stdout); err != nil {
 			return err
 		}
-		if err := writeFigures(e.stderr, d.plots, d.figs, d.inputs); err != nil {
-			return err
-		}
-		if !d.inline {
-			printWarnings(e.stderr, d.warnings)
-		}
-		return nil
 	}
-	if err := output.WriteFile(d.output, d.inputs, d.write); err != nil {
+	if err := f.Commit(); err != nil {
 		return err
 	}
-	if err := writeFigures(e.stderr, d.plots, d.figs, append([]string{d.output}, d.inputs...)); err != nil {
+	if err := listFigures(e.stderr, figPaths, d.figs); err != nil {
 		return err
 	}
-	if d.summary != nil {
-		d.summary(e.stderr)
+	switch {
+	case d.toStdout() && !d.inline:
+		return endNote(e.stderr, d.warnings)
+	case !d.toStdout() && d.summary != nil:
+		return d.summary(e.stderr)
 	}
 	return nil
+}
+
+// listFigures names each figure written, with its caption.
+func listFigures(w io.Writer, paths []string, figs []rating.Figure) error {
+	bw := bufio.NewWriter(w)
+	for i, p := range paths {
+		fmt.Fprintf(bw, "  %-28s %s\n", filepath.Base(p), figs[i].Caption)
+	}
+	return bw.Flush()
+}
+
+// endNote writes the warnings and the caution on the console.
+func endNote(w io.Writer, warnings []string) error {
+	if err := results.WriteWarnings(w, warnings); err != nil {
+		return err
+	}
+	return results.WriteCaution(w)
 }

@@ -21,7 +21,7 @@ import (
 func fitRun(t *testing.T, args ...string) (string, string, error) {
 	t.Helper()
 	var out, errb bytes.Buffer
-	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
+	err := run(context.Background(), newEnv(&out, &errb, commandTable()), args)
 	return out.String(), errb.String(), err
 }
 

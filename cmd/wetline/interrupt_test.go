@@ -11,7 +11,6 @@ import (
 	"syscall"
 	"testing"
 	"time"
-	"wetline/survey/output"
 )
 
 // helperEnv makes the test binary act as the wetline program (see
@@ -21,16 +20,16 @@ const helperEnv = "WETLINE_TEST_AS_PROGRAM"
 
 func TestMain(m *testing.M) {
 	if os.Getenv(helperEnv) != "" {
-		commands["stall"] = command{"write part of a file, then wait", func(ctx context.Context, e *env, args []string) error {
-			return output.WriteFile(args[0], nil, func(w io.Writer) error {
+		cmds := commandTable()
+		cmds["stall"] = command{"write part of a file, then wait", func(ctx context.Context, e *env, args []string) error {
+			return e.files.Write(args[0], func(w io.Writer) error {
 				io.WriteString(w, "stage,discharge\n1,2\n")
 				<-ctx.Done()
 				time.Sleep(time.Minute) // the handler exits the program first
 				return errors.New("not interrupted")
 			})
 		}}
-		main()
-		return
+		os.Exit(mainWith(cmds))
 	}
 	os.Exit(m.Run())
 }

@@ -9,39 +9,61 @@ import (
 	"os/signal"
 	"sort"
 	"strings"
+	"syscall"
+	"time"
+
 	"wetline/rating"
 	"wetline/survey/output"
-
-	"github.com/spf13/pflag"
 )
 
-// Version is the program version stated in every report.
+// Version is the program version stated in every report. It is set at
+// build time with -ldflags "-X main.Version=...".
 var Version = "0.1.0"
+
+// program names the program and its version in reports.
+func program() string { return "wetline " + Version }
 
 // command is one subcommand: its one-line summary and its entry point.
 type command struct {
 	summary string
-	run     func(ctx context.Context, env *env, args []string) error
+	run     func(ctx context.Context, e *env, args []string) error
 }
 
-// env carries the standard streams to a subcommand.
+// commandTable lists the subcommands by name.
+func commandTable() map[string]command {
+	return map[string]command{
+		"rate":      {"compute a stage–discharge table from a surveyed section", runRate},
+		"demo":      {"write an invented demo site, its rating and reports to a folder", runDemo},
+		"solve":     {"normal and critical stage for a discharge, or the stage holding a flow area", runSolve},
+		"cowan":     {"Manning's n from a description of the reach by Cowan's method", runCowan},
+		"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
+		"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
+		"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
+		"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
+		"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
+	}
+}
+
+// env is what a run of the program works with: its streams, the files it
+// writes, and the command table.
 type env struct {
 	stdout, stderr io.Writer
 	// stderrTTY reports whether stderr is a terminal (for progress lines).
 	stderrTTY bool
+	// files are the run's output files, committed when a command has
+	// written them all and discarded when it fails or is interrupted.
+	files *output.Files
+	// commands is the command table (commandTable, or a test's).
+	commands map[string]command
+	// progressDelay is how long a batch runs before it shows a progress
+	// line; progressEvery the shortest time between two updates.
+	progressDelay, progressEvery time.Duration
 }
 
-// commands lists the subcommands by name.
-var commands = map[string]command{
-	"rate":      {"compute a stage–discharge table from a surveyed section", runRate},
-	"demo":      {"write an invented demo site, its rating and reports to a folder", runDemo},
-	"solve":     {"normal and critical stage for a discharge, or the stage holding a flow area", runSolve},
-	"cowan":     {"Manning's n from a description of the reach by Cowan's method", runCowan},
-	"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
-	"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
-	"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
-	"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
-	"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
+// newEnv returns an environment writing to stdout and stderr.
+func newEnv(stdout, stderr io.Writer, cmds map[string]command) *env {
+	return &env{stdout: stdout, stderr: stderr, files: output.New(), commands: cmds,
+		progressDelay: time.Second, progressEvery: 200 * time.Millisecond}
 }
 
 // usageError marks an error in the command line (exit status 2).
@@ -55,22 +77,54 @@ func usagef(format string, a ...any) error { return usageError{fmt.Errorf(format
 // errHelp ends a run after help was printed (exit status 0).
 var errHelp = errors.New("help shown")
 
-func main() {
+func main() { os.Exit(mainWith(commandTable())) }
+
+// interruptStatus is the exit status after a signal: 128 plus its number.
+func interruptStatus(sig os.Signal) int {
+	if s, ok := sig.(syscall.Signal); ok {
+		return 128 + int(s)
+	}
+	return 130
+}
+
+// mainWith runs the program with a command table and returns its exit
+// status. An interrupt (SIGINT, SIGTERM or SIGHUP) discards every output
+// file being written and every temporary file, then exits.
+func mainWith(cmds map[string]command) int {
+	st, _ := os.Stderr.Stat()
+	e := newEnv(os.Stdout, os.Stderr, cmds)
+	e.stderrTTY = st != nil && st.Mode()&os.ModeCharDevice != 0
+	scratch, err := privateTemp()
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "wetline: "+err.Error())
+		return 1
+	}
 	ctx, cancel := context.WithCancel(context.Background())
 	sigs := make(chan os.Signal, 1)
-	signal.Notify(sigs, os.Interrupt)
+	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
 	go func() {
-		<-sigs
-		// Interrupted: no partial output may stay behind.
+		sig := <-sigs
 		cancel()
-		output.RemoveTemps()
+		e.files.Discard()
+		os.RemoveAll(scratch)
 		fmt.Fprintln(os.Stderr, "wetline: interrupted; no partial output left")
-		os.Exit(130)
+		os.Exit(interruptStatus(sig))
 	}()
-	st, _ := os.Stderr.Stat()
-	tty := st != nil && st.Mode()&os.ModeCharDevice != 0
-	err := run(ctx, &env{stdout: os.Stdout, stderr: os.Stderr, stderrTTY: tty}, os.Args[1:])
-	os.Exit(exitStatus(err, os.Stderr))
+	err = run(ctx, e, os.Args[1:])
+	os.RemoveAll(scratch)
+	return exitStatus(err, os.Stderr)
+}
+
+// privateTemp makes a temporary folder for this run and points the
+// process's temporary folder at it, so that the spreadsheet library's own
+// temporary files of a large workbook are removed with it, even on an
+// interrupt.
+func privateTemp() (string, error) {
+	dir, err := os.MkdirTemp("", "wetline-")
+	if err != nil {
+		return "", fmt.Errorf("cannot make a temporary folder: %w", err)
+	}
+	return dir, os.Setenv("TMPDIR", dir)
 }
 
 // exitStatus prints err and maps it to the exit status: 0 success (and
@@ -94,98 +148,43 @@ func exitStatus(err error, stderr io.Writer) int {
 // program name) and runs one subcommand.
 func run(ctx context.Context, e *env, args []string) error {
 	if len(args) == 0 {
-		printUsage(e.stderr)
+		printUsage(e.stderr, e.commands)
 		return usagef("no command given")
 	}
 	name := args[0]
 	switch name {
 	case "help", "-h", "--help":
-		printUsage(e.stdout)
-		return nil
+		return printUsage(e.stdout, e.commands)
 	case "version", "--version":
-		fmt.Fprintln(e.stdout, "wetline", Version)
-		return nil
+		_, err := fmt.Fprintln(e.stdout, program())
+		return err
 	}
-	c, ok := commands[name]
+	c, ok := e.commands[name]
 	if !ok {
 		return usagef("unknown command %q", name)
 	}
-	return c.run(ctx, e, args[1:])
+	err := c.run(ctx, e, args[1:])
+	if err != nil {
+		e.files.Discard() // a failed run leaves no output
+	}
+	return err
 }
 
-func printUsage(w io.Writer) {
-	fmt.Fprintln(w, "wetline: stage–discharge ratings from surveyed river cross-sections")
-	fmt.Fprintln(w, "\nUsage: wetline COMMAND [ARGUMENTS]\n\nCommands:")
-	names := make([]string, 0, len(commands))
-	for n := range commands {
+// printUsage lists the commands.
+func printUsage(w io.Writer, cmds map[string]command) error {
+	var b strings.Builder
+	b.WriteString("wetline: stage–discharge ratings from surveyed river cross-sections\n")
+	b.WriteString("\nUsage: wetline COMMAND [ARGUMENTS]\n\nCommands:\n")
+	names := make([]string, 0, len(cmds))
+	for n := range cmds {
 		names = append(names, n)
 	}
 	sort.Strings(names)
 	for _, n := range names {
-		fmt.Fprintf(w, "  %-10s %s\n", n, commands[n].summary)
+		fmt.Fprintf(&b, "  %-10s %s\n", n, cmds[n].summary)
 	}
-	fmt.Fprintln(w, "\nRun 'wetline COMMAND --help' for a command's flags.")
-	fmt.Fprintln(w, "\nCaution: "+rating.Caution)
-}
-
-// newFlags returns a flag set for a subcommand with -h/--help defined, so
-// help goes to stdout.
-func newFlags(name, usage string) *pflag.FlagSet {
-	fs := pflag.NewFlagSet(name, pflag.ContinueOnError)
-	fs.SortFlags = false
-	fs.BoolP("help", "h", false, "show this help")
-	fs.Usage = func() {}
-	fs.SetOutput(io.Discard)
-	usageText[fs] = usage
-	return fs
-}
-
-var usageText = map[*pflag.FlagSet]string{}
-
-// parseFlags parses args; it prints help to stdout and returns errHelp for
-// -h, and wraps parse errors as usage errors.
-func parseFlags(fs *pflag.FlagSet, e *env, args []string) error {
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, pflag.ErrHelp) {
-			printFlags(fs, e.stdout)
-			return errHelp
-		}
-		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
-	}
-	if h, _ := fs.GetBool("help"); h {
-		printFlags(fs, e.stdout)
-		return errHelp
-	}
-	return nil
-}
-
-func printFlags(fs *pflag.FlagSet, w io.Writer) {
-	fmt.Fprintf(w, "Usage: wetline %s\n\n", usageText[fs])
-	fs.VisitAll(func(f *pflag.Flag) {
-		name := "--" + f.Name
-		if f.Shorthand != "" {
-			name = "-" + f.Shorthand + ", " + name
-		}
-		if typ := f.Value.Type(); typ != "bool" {
-			name += " " + argName(typ)
-		}
-		def := ""
-		switch f.DefValue {
-		case "", "false", "0", "[]", "NaN":
-		default:
-			def = fmt.Sprintf(" (default %s)", f.DefValue)
-		}
-		fmt.Fprintf(w, "  %-24s %s%s\n", name, f.Usage, def)
-	})
-}
-
-// argName names a flag's argument in help by its type.
-func argName(typ string) string {
-	switch typ {
-	case "float64", "int", "int64", "uint64":
-		return "NUM"
-	case "float64Slice":
-		return "LIST"
-	}
-	return "TEXT"
+	b.WriteString("\nRun 'wetline COMMAND --help' for a command's flags.\n")
+	b.WriteString("\nCaution: " + rating.Caution + "\n")
+	_, err := io.WriteString(w, b.String())
+	return err
 }

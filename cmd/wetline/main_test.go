@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"flag"
+	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -18,7 +19,7 @@ var update = flag.Bool("update", false, "rewrite golden files in testdata/")
 func runCLI(t testing.TB, args ...string) (string, string, int) {
 	t.Helper()
 	var out, errb bytes.Buffer
-	err := run(context.Background(), &env{stdout: &out, stderr: &errb}, args)
+	err := run(context.Background(), newEnv(&out, &errb, commandTable()), args)
 	code := exitStatus(err, &errb)
 	return out.String(), errb.String(), code
 }
@@ -200,4 +201,12 @@ func TestHelpAndDemo(t *testing.T) {
 			t.Error(err)
 		}
 	}
+}
+
+// ttyEnv is a test environment whose standard error acts as a terminal
+// when tty is set, showing progress at once.
+func ttyEnv(stdout, stderr io.Writer, tty bool) *env {
+	e := newEnv(stdout, stderr, commandTable())
+	e.stderrTTY, e.progressDelay, e.progressEvery = tty, 0, 0
+	return e
 }

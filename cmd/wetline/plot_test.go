@@ -48,7 +48,7 @@ func TestRatePlots(t *testing.T) {
 	dir := t.TempDir()
 	plots := filepath.Join(dir, "figs")
 	var stdout, stderr bytes.Buffer
-	err := run(context.Background(), &env{stdout: &stdout, stderr: &stderr},
+	err := run(context.Background(), newEnv(&stdout, &stderr, commandTable()),
 		[]string{"rate", filepath.Join("..", "..", "testdata", "tallow-xs1.csv"), "--slope", "0.0012", "-o", filepath.Join(dir, "r.csv"), "--plots", plots})
 	if err != nil {
 		t.Fatal(err, stderr.String())
@@ -62,7 +62,7 @@ func TestRatePlots(t *testing.T) {
 func TestPlotRedraw(t *testing.T) {
 	dir := t.TempDir()
 	var stdout, stderr bytes.Buffer
-	e := &env{stdout: &stdout, stderr: &stderr}
+	e := newEnv(&stdout, &stderr, commandTable())
 	survey := filepath.Join("..", "..", "testdata", "tallow-xs1.csv")
 	table := filepath.Join(dir, "tallow-xs1-rating.csv")
 	if err := run(context.Background(), e, []string{"rate", survey, "--slope", "0.0012", "-o", table}); err != nil {
@@ -112,7 +112,7 @@ func TestPlotErrors(t *testing.T) {
 			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))
 			args := append(append([]string(nil), tc.args...), "-o", out)
 			var stdout, stderr bytes.Buffer
-			err := run(context.Background(), &env{stdout: &stdout, stderr: &stderr}, args)
+			err := run(context.Background(), newEnv(&stdout, &stderr, commandTable()), args)
 			var ue usageError
 			if err == nil || errors.As(err, &ue) != tc.usage || !strings.Contains(err.Error(), tc.errHas) {
 				t.Fatalf("error %v (usage %v), want %q (usage %v)", err, errors.As(err, &ue), tc.errHas, tc.usage)

@@ -1,13 +1,11 @@
 package main
 
 import (
+	"errors"
 	"fmt"
-	"strconv"
-	"strings"
-
-	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/subdivide"
 	"wetline/survey"
 )
@@ -15,8 +13,8 @@ import (
 // sectionFlags are the flags shared by every command that reads one section.
 type sectionFlags struct {
 	sheet     string
-	n         string
-	banks     string
+	n         numbers
+	banks     numbers
 	units     string
 	connected bool
 	noExtend  bool
@@ -24,103 +22,113 @@ type sectionFlags struct {
 	composite string // composite roughness method
 }
 
-func (sf *sectionFlags) register(fs *pflag.FlagSet) {
+func (sf *sectionFlags) register(fs *flagSet) {
 	fs.StringVar(&sf.sheet, "sheet", "", "workbook sheet holding the survey (default: the first sheet)")
-	fs.StringVar(&sf.n, "n", "", "Manning's n for the whole section, or LEFT,CHANNEL,RIGHT by region (overrides the survey's n column)")
-	fs.StringVar(&sf.banks, "banks", "", "bank stations LEFT,RIGHT bounding the main channel (overrides bank marks)")
+	fs.Var(&sf.n, "n", "Manning's n for the whole section, or LEFT,CHANNEL,RIGHT by region (overrides the survey's n column)")
+	fs.Var(&sf.banks, "banks", "bank stations LEFT,RIGHT bounding the main channel (overrides bank marks)")
 	fs.StringVar(&sf.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
 	fs.BoolVar(&sf.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
-	sf.registerShape(fs)
+	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
+	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n), horton, pavlovskii or lotter")
 }
 
-// loaded is a section ready for hydraulics.
-type loaded struct {
-	geom     subdivide.Geometry
-	survey   survey.Survey // empty for built shapes
-	units    rating.Units
-	geomOpt  subdivide.Options
-	inputs   []string // files read, never to be written over
-	warnings []string
-	source   string          // the survey path or the shape spec, for messages
-	shape    subdivide.Shape // the built shape, when one was given
-
-	// section is the section as compiled, after the flag overrides.
-	section subdivide.Section
+// geometry returns the wetting options of the flags.
+func (sf *sectionFlags) geometry() subdivide.Options {
+	return subdivide.Options{Connected: sf.connected, NoExtend: sf.noExtend}
 }
 
-// load reads the survey at path and applies the flag overrides.
-func (sf *sectionFlags) load(path string) (*loaded, error) {
+// unitSystem reads --units.
+func (sf *sectionFlags) unitSystem() (rating.Units, error) {
 	u, err := rating.ParseUnits(sf.units)
 	if err != nil {
-		return nil, usageError{err}
+		return u, usageError{err}
 	}
-	l := &loaded{units: u, inputs: []string{path}, source: path,
-		geomOpt: subdivide.Options{Connected: sf.connected, NoExtend: sf.noExtend}}
-	if sf.shape != "" || path == "" {
-		return sf.loadShape(l, path)
+	return u, nil
+}
+
+// request turns the flags into a section request for the survey at path
+// ("" with --shape).
+func (sf *sectionFlags) request(path string) (survey.SectionRequest, error) {
+	u, err := sf.unitSystem()
+	if err != nil {
+		return survey.SectionRequest{}, err
 	}
-	sv, err := survey.ReadSection(path, sf.sheet, survey.SectionOptions{IgnoreBankMarks: sf.banks != ""})
+	c, err := rating.ParseComposite(sf.composite)
+	if err != nil {
+		return survey.SectionRequest{}, usageError{err}
+	}
+	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u}
+	if len(sf.n) > 0 {
+		req.N = sf.n
+	}
+	if len(sf.banks) > 0 {
+		req.Banks = sf.banks
+	}
+	return req, nil
+}
+
+// prepare reads the survey at path (or builds --shape) with the flags'
+// overrides. A request the flags got wrong is a usage error.
+func (sf *sectionFlags) prepare(path string) (*survey.Prepared, error) {
+	req, err := sf.request(path)
 	if err != nil {
 		return nil, err
 	}
-	l.survey = sv
-	l.warnings = append(l.warnings, sv.Warnings...)
-	sec := sv.Section
-	if sf.banks != "" {
-		v, err := parseFloats(sf.banks, "--banks")
-		if err != nil {
-			return nil, err
-		}
-		if len(v) != 2 {
-			return nil, usagef("--banks wants two stations LEFT,RIGHT, got %q", sf.banks)
-		}
-		sec.HasBanks, sec.LeftBank, sec.RightBank = true, v[0], v[1]
+	p, err := survey.Prepare(req)
+	if errors.Is(err, survey.ErrRequest) {
+		return nil, usageError{err}
 	}
-	if sf.n != "" {
-		v, err := parseFloats(sf.n, "--n")
-		if err != nil {
-			return nil, err
-		}
-		for _, n := range v {
-			if !(n > 0) {
-				return nil, usagef("--n %q: Manning's n must be positive", sf.n)
-			}
-		}
-		switch len(v) {
-		case 1:
-			sec.NByRegion = subdivide.UniformN(v[0])
-		case 3:
-			if !sec.HasBanks {
-				return nil, fmt.Errorf("%s: --n LEFT,CHANNEL,RIGHT needs bank stations (mark two points bank or give --banks)", path)
-			}
-			sec.NByRegion.Left = v[0]
-			sec.NByRegion.Channel = v[1]
-			sec.NByRegion.Right = v[2]
-		default:
-			return nil, usagef("--n wants one value or three (LEFT,CHANNEL,RIGHT), got %q", sf.n)
-		}
-	}
-	if sec.N == nil && sf.n == "" {
-		return nil, fmt.Errorf("%s: the survey has no n column: give Manning's n with --n", path)
-	}
-	p, err := subdivide.Compile(sec)
-	if err != nil {
-		return nil, fmt.Errorf("%s: %w", path, err)
-	}
-	l.section = sec
-	return sf.finish(l, p)
+	return p, err
 }
 
-// parseFloats reads a comma-separated list of numbers from a flag value.
-func parseFloats(s, flag string) ([]float64, error) {
-	var out []float64
-	for _, f := range strings.Split(s, ",") {
-		v, err := strconv.ParseFloat(strings.TrimSpace(f), 64)
-		if err != nil || v != v {
-			return nil, usagef("%s %q: %q is not a number", flag, s, f)
-		}
-		out = append(out, v)
+// failed words an error from computing on a prepared section: a stage
+// above a conduit's crown is a usage error.
+func failed(p *survey.Prepared, err error) error {
+	err = fmt.Errorf("%s: %w", p.Source(), err)
+	if errors.Is(err, subdivide.ErrAboveCrown) {
+		return usageError{err}
 	}
-	return out, nil
+	return err
+}
+
+// calibrateFlags let a command scale the survey's n so that its hydraulic
+// rating honours a file of gaugings.
+type calibrateFlags struct {
+	gaugings    string
+	sheet       string
+	datum       float64
+	channelOnly bool
+}
+
+func (c *calibrateFlags) register(fs *flagSet) {
+	fs.StringVar(&c.gaugings, "calibrate", "", "gaugings file: scale n by the factor that best fits them (least squares in ln Q)")
+	fs.StringVar(&c.sheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
+	fs.Float64Var(&c.datum, "datum", 0, "with --calibrate: elevation of the gauge's zero, elevation = gauge height + DATUM")
+	fs.BoolVar(&c.channelOnly, "channel-only", false, "with --calibrate: scale only the main channel's n")
+}
+
+// apply calibrates n on the gaugings, when asked, and replaces the
+// prepared geometry by the scaled one; the factor and the datum are stated
+// among the warnings so that every report carries them.
+func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Options) error {
+	if err := fs.needs("--calibrate GAUGINGS", c.gaugings != "", "gaugings-sheet", "datum", "channel-only"); err != nil {
+		return err
+	}
+	if c.gaugings == "" {
+		return nil
+	}
+	gs, err := survey.ReadGaugings(c.gaugings, c.sheet)
+	if err != nil {
+		return err
+	}
+	curve := rating.HydraulicCurve{Geometry: p.Geometry, Datum: c.datum, Options: opt}
+	g, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings)
+	if err != nil {
+		return fmt.Errorf("%s: %w", c.gaugings, err)
+	}
+	p.Inputs = append(p.Inputs, c.gaugings)
+	p.Warnings = append(append(p.Warnings, gs.Warnings...), notes...)
+	p.Geometry = g
+	return nil
 }

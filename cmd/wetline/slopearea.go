@@ -2,19 +2,19 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
+	"strings"
 
-	"github.com/spf13/pflag"
-
+	"wetline/plotting"
 	"wetline/rating"
 	"wetline/rating/reach"
 	"wetline/subdivide"
 	"wetline/survey"
-	"wetline/survey/output"
 	"wetline/survey/results"
-	"wetline/survey/workbook"
 )
 
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
@@ -34,7 +34,7 @@ type slopeAreaFlags struct {
 	plots, site        string
 }
 
-func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
+func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the sections overlaid (PNG) into this folder")
 	fs.StringVar(&f.site, "site", "", "site name for the figure titles")
@@ -55,178 +55,119 @@ func (f *slopeAreaFlags) register(fs *pflag.FlagSet) {
 	}
 }
 
-// check validates the flags that need no data.
-func (f *slopeAreaFlags) check() (rating.Units, reach.Side, error) {
+// options validates the flags that need no data and turns them into the
+// estimate's options.
+func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
+	var opt reach.EstimateOptions
 	u, err := rating.ParseUnits(f.units)
 	if err != nil {
-		return u, 0, usageError{err}
+		return opt, usageError{err}
 	}
 	side, err := reach.ParseSide(f.side)
 	if err != nil {
-		return u, side, usageError{err}
+		return opt, usageError{err}
 	}
 	switch {
 	case f.draws < 0 || f.draws > reach.MaxDraws:
-		return u, side, usagef("--draws %d: want 0 to %d", f.draws, reach.MaxDraws)
-	case !(f.nCV >= 0) || math.IsInf(f.nCV, 0):
-		return u, side, usagef("--n-cv %v: want 0 or more", f.nCV)
-	case f.markSD < 0 || math.IsInf(f.markSD, 0):
-		return u, side, usagef("--mark-sd %v: want 0 or more", f.markSD)
-	case !math.IsNaN(f.markSpread) && (!(f.markSpread > 0) || math.IsInf(f.markSpread, 0)):
-		return u, side, usagef("--mark-spread %v: want a positive length", f.markSpread)
-	case f.slope < 0 || math.IsNaN(f.slope) || math.IsInf(f.slope, 0):
-		return u, side, usagef("--slope %v: want a positive slope", f.slope)
+		return opt, usagef("slopearea: --draws %d: want 0 to %d", f.draws, reach.MaxDraws)
+	case f.nCV < 0:
+		return opt, usagef("slopearea: --n-cv %v: want 0 or more", f.nCV)
+	case f.markSD < 0:
+		return opt, usagef("slopearea: --mark-sd %v: want 0 or more", f.markSD)
+	case f.slope < 0:
+		return opt, usagef("slopearea: --slope %v: want a positive slope", f.slope)
 	}
-	return u, side, nil
+	if err := fs.positive("mark-spread"); err != nil {
+		return opt, err
+	}
+	if err := checkSlope("slopearea", f.slope); err != nil {
+		return opt, err
+	}
+	opt.SlopeArea = reach.SlopeAreaOptions{Units: u, Side: side,
+		Geometry: subdivide.Options{Connected: f.connected, NoExtend: f.noExtend}}
+	if !math.IsNaN(f.markSpread) {
+		opt.SlopeArea.MarkSpread = f.markSpread
+	}
+	opt.Slope, opt.Draws = f.slope, f.draws
+	opt.MonteCarlo = reach.MonteCarloOptions{Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
+	if f.nCV == 0 {
+		opt.MonteCarlo.NCV = -1 // none
+	}
+	switch {
+	case math.IsNaN(f.markSD):
+		opt.MonteCarlo.MarkSD = 0 // default
+	case f.markSD == 0:
+		opt.MonteCarlo.MarkSD = -1 // none
+	}
+	return opt, nil
 }
 
 func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("slopearea", slopeAreaUsage)
 	var f slopeAreaFlags
 	f.register(fs)
-	if err := parseFlags(fs, e, args); err != nil {
+	if err := fs.parse(e, args); err != nil {
 		return err
 	}
 	if fs.NArg() != 1 {
 		return usagef("slopearea: want one REACH table, got %d arguments", fs.NArg())
 	}
-	format, err := outputFormat(f.format, f.output, "text", "json", "xlsx")
+	format, err := outputFormat("slopearea", f.format, f.output, "text", "json", "xlsx")
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && f.output == "" {
+	if format == "xlsx" && (f.output == "" || f.output == "-") {
 		return usagef("slopearea: an xlsx workbook needs -o FILE.xlsx")
 	}
-	rep, inputs, err := slopeArea(fs.Arg(0), &f)
+	opt, err := f.options(fs)
 	if err != nil {
 		return err
 	}
-	var figs []figureFile
+	path := fs.Arg(0)
+	rep, err := estimate(path, f.sheet, opt)
+	if err != nil {
+		return err
+	}
 	if f.plots != "" || format == "xlsx" {
-		// Figures are drawn in memory first: a drawing error writes nothing.
-		var w []string
-		if figs, w, err = slopeAreaFigures(rep, f.site); err != nil {
+		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+		figs, w, err := plotting.DrawReach(rep, f.site, base, plotting.Size{})
+		if err != nil {
 			return err
 		}
-		rep.Warnings = append(rep.Warnings, w...)
+		rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
 	}
-	plotFigs := figs // written as files only with --plots
+	figs := rep.Figures
 	if f.plots == "" {
-		plotFigs = nil
+		figs = nil
 	}
-	write := func(w io.Writer) error {
-		if format == "xlsx" {
-			return results.WriteSlopeAreaWorkbook(w, rep, pictures(figs))
-		}
-		if format == "json" {
-			return results.WriteSlopeAreaJSON(w, rep)
-		}
-		return results.WriteSlopeAreaText(w, rep)
-	}
-	return delivery{output: f.output, inputs: inputs, write: write, inline: format == "text", warnings: rep.Warnings,
-		plots: f.plots, figs: plotFigs,
-		summary: func(w io.Writer) { summarizeSlopeArea(w, rep, f.output) }}.deliver(e)
+	write := map[string]func(io.Writer, reach.Report) error{
+		"text": results.WriteSlopeAreaText, "json": results.WriteSlopeAreaJSON, "xlsx": results.WriteSlopeAreaWorkbook,
+	}[format]
+	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
+		write:  func(w io.Writer) error { return write(w, rep) },
+		inline: true, warnings: rep.Warnings, plots: f.plots, figs: figs,
+		summary: func(w io.Writer) error { return results.WriteSlopeAreaSummary(w, rep, f.output) }})
 }
 
-// slopeArea reads a reach and computes its slope-area report. It returns
-// the files read, which no output may overwrite.
-func slopeArea(path string, f *slopeAreaFlags) (results.SlopeAreaReport, []string, error) {
-	rep := results.SlopeAreaReport{Version: Version}
-	u, side, err := f.check()
+// estimate reads a reach table and its surveys and estimates the peak.
+func estimate(path, sheet string, opt reach.EstimateOptions) (reach.Report, error) {
+	rt, err := survey.ReadReach(path, sheet, survey.SectionOptions{})
 	if err != nil {
-		return rep, nil, err
+		return reach.Report{}, err
 	}
-	rt, err := survey.ReadReach(path, f.sheet, survey.SectionOptions{})
+	secs, err := rt.ReachSections(opt.SlopeArea.Units)
 	if err != nil {
-		return rep, nil, err
+		return reach.Report{}, err
 	}
-	rep.Reach = rt
-	inputs := rt.Inputs()
-	if f.output != "" {
-		if err := output.CheckOutput(f.output, inputs); err != nil {
-			return rep, nil, err
-		}
+	rep, err := reach.Estimate(secs, opt)
+	if errors.Is(err, reach.ErrSlopeForReach) {
+		return rep, usageError{fmt.Errorf("slopearea: --slope: %w", err)}
 	}
-	secs, err := rt.ReachSections(u)
 	if err != nil {
-		return rep, nil, err
+		return rep, rt.PlaceError(err)
 	}
-	opt := reach.SlopeAreaOptions{Units: u, Side: side,
-		Geometry: subdivide.Options{Connected: f.connected, NoExtend: f.noExtend}}
-	if !math.IsNaN(f.markSpread) {
-		opt.MarkSpread = f.markSpread
-	}
-	rep.Warnings = append(rep.Warnings, rt.Warnings...)
-	if len(secs) == 1 {
-		if f.slope == 0 {
-			return rep, nil, rt.PlaceError(reach.ErrTooFewSections)
-		}
-		res, err := reach.SlopeConveyance(secs[0], f.slope, opt)
-		if err != nil {
-			return rep, nil, rt.PlaceError(err)
-		}
-		rep.Result = res
-		rep.Warnings = append(rep.Warnings, res.Warnings...)
-		return rep, inputs, nil
-	}
-	if f.slope != 0 {
-		return rep, nil, usagef("--slope is only for a reach of one section (the slope-conveyance estimate); this reach has %d", len(secs))
-	}
-	res, err := reach.SolveSlopeArea(secs, opt)
-	if err != nil {
-		return rep, nil, rt.PlaceError(err)
-	}
-	rep.Result = res
-	rep.Warnings = append(rep.Warnings, res.Warnings...)
-	if f.draws > 0 {
-		mc := reach.MonteCarloOptions{Draws: f.draws, Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
-		if mc.NCV == 0 {
-			mc.NCV = -1 // none
-		}
-		switch {
-		case math.IsNaN(f.markSD):
-			mc.MarkSD = 0 // default
-		case f.markSD == 0:
-			mc.MarkSD = -1 // none
-		}
-		un, err := reach.MonteCarlo(secs, opt, mc)
-		if err != nil {
-			return rep, nil, rt.PlaceError(err)
-		}
-		rep.Uncertainty = &un
-		if un.Failed > un.Draws/100 {
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf(
-				"%d of %d Monte Carlo draws had no solution (a section dry or no fall): the band leaves them out", un.Failed, un.Draws))
-		}
-	}
-	return rep, inputs, nil
-}
-
-// summarizeSlopeArea prints the console summary of a written report.
-func summarizeSlopeArea(w io.Writer, rep results.SlopeAreaReport, path string) {
-	r := rep.Result
-	fmt.Fprintf(w, "wrote %s: %s peak discharge %s %s", path, r.Method, sig3(r.Discharge), r.Units.Discharge())
-	if u := rep.Uncertainty; u != nil {
-		fmt.Fprintf(w, " (90 %% band %s to %s %s)", sig3(u.P05), sig3(u.P95), r.Units.Discharge())
-	}
-	warn := 0
-	for _, c := range r.Checks {
-		if !c.Pass {
-			warn++
-		}
-	}
-	fmt.Fprintf(w, ", %d of %d checks warn\n", warn, len(r.Checks))
-	printWarnings(w, rep.Warnings)
-	fmt.Fprintln(w, "caution: "+rating.Caution)
-}
-
-func saNaN() float64 { return math.NaN() }
-
-// pictures turns figures into workbook pictures captioned by what they show.
-func pictures(figs []figureFile) []workbook.Picture {
-	out := make([]workbook.Picture, len(figs))
-	for i, f := range figs {
-		out[i] = workbook.Picture{Name: f.what, PNG: f.data}
-	}
-	return out
+	rep.Name = survey.Position(path, sheet)
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: rt.Inputs()}
+	rep.Warnings = append(append([]string(nil), rt.Warnings...), rep.Warnings...)
+	return rep, nil
 }

@@ -156,7 +156,7 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 	}
 	// Never over an input.
 	before, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
-	_, errs, code = runCLI(t, "slopearea", "demodata/reach-brindle.csv", "-o", "demodata/reach-brindle-xs2.csv")
+	_, errs, code = runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--format", "text", "-o", "demodata/reach-brindle-xs2.csv")
 	after, _ := os.ReadFile("demodata/reach-brindle-xs2.csv")
 	if code != 1 || !strings.Contains(errs, "refusing") || !bytes.Equal(before, after) {
 		t.Errorf("overwrite of an input: exit %d %s", code, errs)

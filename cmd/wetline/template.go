@@ -7,7 +7,6 @@ import (
 
 	"wetline/rating"
 	"wetline/survey"
-	"wetline/survey/output"
 )
 
 const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us] [--survey SURVEY ...]"
@@ -22,10 +21,10 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		fmt.Sprintf("rows per sheet that carry validation rules (1 to %d)", survey.MaxTemplateRows))
 	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s)")
 	surveys := fs.StringArray("survey", nil, "prefill a cross-section sheet from this survey (CSV, or a workbook's first sheet); repeatable")
-	if err := parseFlags(fs, e, args); err != nil {
+	if err := fs.parse(e, args); err != nil {
 		return err
 	}
-	if *out == "" || fs.NArg() != 0 {
+	if *out == "" || *out == "-" || fs.NArg() != 0 {
 		return usagef("template: want -o FILE.xlsx and no other arguments")
 	}
 	if !survey.IsWorkbook(*out) {
@@ -52,11 +51,12 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	if len(opt.Surveys) > survey.MaxTemplateSections {
 		return usagef("template: %d surveys: at most %d", len(opt.Surveys), survey.MaxTemplateSections)
 	}
-	if err := output.WriteFile(*out, *surveys, func(w io.Writer) error { return survey.WriteTemplate(w, opt) }); err != nil {
-		return err
-	}
-	fmt.Fprintf(e.stderr, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s and %s; units %s, %s\n",
-		*out, max(*sections, len(opt.Surveys)), len(opt.Surveys),
-		survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions, u.Length(), u.Discharge())
-	return nil
+	return e.deliver(delivery{output: *out, inputs: *surveys,
+		write: func(w io.Writer) error { return survey.WriteTemplate(w, opt) },
+		summary: func(w io.Writer) error {
+			_, err := fmt.Fprintf(w, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s and %s; units %s, %s\n",
+				*out, max(*sections, len(opt.Surveys)), len(opt.Surveys),
+				survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions, u.Length(), u.Discharge())
+			return err
+		}})
 }

@@ -23,7 +23,7 @@ const wbTallowCSV = "../../testdata/tallow-xs1.csv"
 func runWB(t *testing.T, args ...string) (stdout, stderr string, err error) {
 	t.Helper()
 	var o, e bytes.Buffer
-	err = run(context.Background(), &env{stdout: &o, stderr: &e}, args)
+	err = run(context.Background(), newEnv(&o, &e, commandTable()), args)
 	return o.String(), e.String(), err
 }
 
@@ -167,7 +167,7 @@ func TestFilledTemplateRoundTrip(t *testing.T) {
 		t.Errorf("rating from the results workbook's survey sheet differs from the CSV's")
 	}
 	// The summary names the sheet read.
-	if s := wbSheetRows(t, outBook, "summary"); !strings.Contains(strings.Join(s[2], " "), "field.xlsx ['XS-2']") {
+	if s := wbSheetRows(t, outBook, "summary"); !strings.Contains(strings.Join(s[2], " "), "field.xlsx['XS-2']") {
 		t.Errorf("summary source %q", s[2])
 	}
 }
@@ -234,7 +234,7 @@ func TestRateWorkbookNoLookup(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(stderr, "warning: no lookup sheet") {
+	if !strings.Contains(stderr, "warning: no lookup table") {
 		t.Errorf("console %q lacks the lookup warning", stderr)
 	}
 	f, err := excelize.OpenFile(out)

@@ -29,6 +29,9 @@ type Options struct {
 	Fit FitOptions
 	// Table configures the lookup table (its Hydraulic is set from above).
 	Table TableOptions
+	// Lookup also evaluates the table's rule at every hundredth of stage
+	// (Report.Lookup), for a printed lookup sheet.
+	Lookup bool
 }
 
 // CurvePoint is the hydraulic rating at one gauge height.
@@ -65,11 +68,21 @@ type Report struct {
 	Curve []CurvePoint
 	// Warnings gathers the warnings of every part.
 	Warnings []string
+	// Hydraulic is the section's hydraulic rating the report was made
+	// with (nil without a section).
+	Hydraulic *rating.HydraulicCurve
+	// Lookup is the table's rule at every hundredth of stage from e to the
+	// table's top (see Options.Lookup); nil when not asked for.
+	Lookup []FitRow
+	// Provenance says what the report was computed from.
+	Provenance rating.Provenance
+	// Figures are the report's pictures (none until drawn).
+	Figures []rating.Figure
 }
 
 // Analyze compares, calibrates and fits gaugings as opt says.
 func Analyze(gs []Gauging, opt Options) (*Report, error) {
-	r := &Report{Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
+	r := &Report{Hydraulic: opt.Hydraulic, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
 	c := opt.Hydraulic
 	if c == nil && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and e from the survey's control need a section")
@@ -118,6 +131,14 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 		return nil, err
 	}
 	r.Table = &t
+	if opt.Lookup {
+		r.Lookup, err = LookupRows(f, c, &t)
+		if errors.Is(err, rating.ErrLookupRange) {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("no lookup table: %v", err))
+		} else if err != nil {
+			return nil, err
+		}
+	}
 	r.Warnings = append(r.Warnings, t.Warnings...)
 	return r, nil
 }

@@ -101,6 +101,11 @@ type Section struct {
 	// MarkSD is the standard deviation of one mark's elevation (length
 	// unit) used by MonteCarlo; zero means MonteCarloOptions.MarkSD.
 	MarkSD float64
+	// Survey, Quality and Note describe the section's inputs for reports:
+	// where its survey came from, the marks' quality rating, a note.
+	Survey  string
+	Quality rating.Quality
+	Note    string
 }
 
 // SlopeAreaOptions configure a slope-area computation. The zero value is

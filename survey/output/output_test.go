@@ -6,6 +6,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"syscall"
 	"testing"
 )
 
@@ -45,10 +46,16 @@ func readString(t *testing.T, path string) string {
 	return string(b)
 }
 
-// TestWriteFileErrorMidWrite: a writer failing after part of its output
-// leaves neither a partial file nor a temporary file, and an existing
-// output keeps its content.
-func TestWriteFileErrorMidWrite(t *testing.T) {
+func text(s string) func(io.Writer) error {
+	return func(w io.Writer) error {
+		_, err := io.WriteString(w, s)
+		return err
+	}
+}
+
+// A writer failing after part of its output leaves neither a partial
+// file nor a temporary file, and an existing output keeps its content.
+func TestWriteErrorMidWrite(t *testing.T) {
 	boom := errors.New("disk on fire")
 	halfThenFail := func(w io.Writer) error {
 		if _, err := io.WriteString(w, "stage,discharge\n1,2\n"); err != nil {
@@ -56,51 +63,78 @@ func TestWriteFileErrorMidWrite(t *testing.T) {
 		}
 		return boom
 	}
-	tests := []struct {
-		name     string
-		existing string // "" for no file before
-	}{
-		{"new file", ""},
-		{"existing file", "old content\n"},
-	}
-	for _, tt := range tests {
-		t.Run(tt.name, func(t *testing.T) {
-			dir := t.TempDir()
-			out := filepath.Join(dir, "rating.csv")
-			if tt.existing != "" {
-				writeString(t, out, tt.existing)
+	for _, existing := range []string{"", "old content\n"} {
+		dir := t.TempDir()
+		out := filepath.Join(dir, "rating.csv")
+		if existing != "" {
+			writeString(t, out, existing)
+		}
+		f := New()
+		if err := f.Write(out, halfThenFail); !errors.Is(err, boom) {
+			t.Fatalf("err = %v, want the writer's error", err)
+		}
+		f.Discard()
+		if existing == "" {
+			if _, err := os.Stat(out); !os.IsNotExist(err) {
+				t.Errorf("a partial output exists: %v", err)
 			}
-			err := WriteFile(out, nil, halfThenFail)
-			if !errors.Is(err, boom) {
-				t.Fatalf("err = %v, want the writer's error", err)
-			}
-			if tt.existing == "" {
-				if _, err := os.Stat(out); !os.IsNotExist(err) {
-					t.Errorf("a partial output exists: %v", err)
-				}
-			} else if got := readString(t, out); got != tt.existing {
-				t.Errorf("existing output changed to %q", got)
-			}
-			if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
-				t.Errorf("files left behind: %v", l)
-			}
-		})
+		} else if got := readString(t, out); got != existing {
+			t.Errorf("existing output changed to %q", got)
+		}
+		if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
+			t.Errorf("files left behind: %v", l)
+		}
 	}
 }
 
-// TestWriteFileReplaces: a successful write replaces the file whole and
-// keeps its permissions.
-func TestWriteFileReplaces(t *testing.T) {
+// Nothing reaches a destination before Commit; a failure of a later file
+// of the run leaves the earlier ones' destinations as they were.
+func TestAllOrNothing(t *testing.T) {
+	dir := t.TempDir()
+	a, b := filepath.Join(dir, "a.csv"), filepath.Join(dir, "b.png")
+	writeString(t, a, "old a\n")
+	f := New()
+	if err := f.Write(a, text("new a\n")); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, a); got != "old a\n" {
+		t.Errorf("a replaced before Commit: %q", got)
+	}
+	notADir := filepath.Join(dir, "notadir")
+	writeString(t, notADir, "x")
+	if err := f.Write(filepath.Join(notADir, "fig.png"), text("png")); !errors.Is(err, ErrNoFolder) {
+		t.Errorf("figure under a file: %v, want ErrNoFolder", err)
+	}
+	f.Discard()
+	if got := readString(t, a); got != "old a\n" {
+		t.Errorf("a changed by a failed run: %q", got)
+	}
+	if _, err := os.Stat(b); !os.IsNotExist(err) {
+		t.Error("b exists")
+	}
+	if l := leftovers(t, dir, "a.csv", "notadir"); len(l) > 0 {
+		t.Errorf("files left behind: %v", l)
+	}
+}
+
+// A commit replaces files whole, keeps their permissions and makes
+// missing folders.
+func TestCommitReplaces(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "rating.csv")
 	writeString(t, out, "old\n")
 	if err := os.Chmod(out, 0o600); err != nil {
 		t.Fatal(err)
 	}
-	if err := WriteFile(out, nil, func(w io.Writer) error {
-		_, err := io.WriteString(w, "new\n")
-		return err
-	}); err != nil {
+	fig := filepath.Join(dir, "figs", "new", "rating.png")
+	f := New()
+	if err := f.Write(out, text("new\n")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Write(fig, text("png")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
 		t.Fatal(err)
 	}
 	if got := readString(t, out); got != "new\n" {
@@ -109,81 +143,155 @@ func TestWriteFileReplaces(t *testing.T) {
 	if st, err := os.Stat(out); err != nil || st.Mode().Perm() != 0o600 {
 		t.Errorf("mode %v (%v), want 0600", st.Mode(), err)
 	}
-	if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
+	if got := readString(t, fig); got != "png" {
+		t.Errorf("figure %q", got)
+	}
+	if l := leftovers(t, dir, "rating.csv", "figs"); len(l) > 0 {
 		t.Errorf("files left behind: %v", l)
+	}
+	if err := f.Write(out, text("again\n")); err != nil {
+		t.Errorf("write after commit: %v", err)
+	}
+	f.Discard()
+	if got := readString(t, out); got != "new\n" {
+		t.Errorf("a discarded write after a commit changed the file: %q", got)
 	}
 }
 
-// TestWriteFileRefusesInputThroughLink: an output that is an input
-// reached through a symbolic link (to the file or to its folder), or the
-// other way round, is refused and the input is untouched.
-func TestWriteFileRefusesInputThroughLink(t *testing.T) {
+// A folder made for an output of a failed run is removed again.
+func TestDiscardRemovesMadeFolders(t *testing.T) {
+	dir := t.TempDir()
+	f := New()
+	if err := f.Write(filepath.Join(dir, "figs", "a.png"), text("png")); err != nil {
+		t.Fatal(err)
+	}
+	f.Discard()
+	if l := leftovers(t, dir); len(l) > 0 {
+		t.Errorf("left behind: %v", l)
+	}
+}
+
+// Destinations that are not regular files, inputs, folders and read-only
+// files are refused before anything is written, and left as they were.
+func TestRefusedDestinations(t *testing.T) {
 	dir := t.TempDir()
 	in := filepath.Join(dir, "xs1.csv")
 	writeString(t, in, "station,elevation\n0,1\n1,0\n")
-	fileLink := filepath.Join(dir, "latest.csv")
-	dirLink := filepath.Join(dir, "surveys")
-	if err := os.Symlink(in, fileLink); err != nil {
-		t.Skip("symbolic links not available:", err)
+	fifo := filepath.Join(dir, "pipe")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Skip("no named pipes here:", err)
 	}
-	if err := os.Symlink(dir, dirLink); err != nil {
+	ro := filepath.Join(dir, "kept.csv")
+	writeString(t, ro, "keep me\n")
+	if err := os.Chmod(ro, 0o444); err != nil {
 		t.Fatal(err)
 	}
-	tests := []struct{ out, input string }{
-		{fileLink, in},
-		{in, fileLink},
-		{filepath.Join(dirLink, "xs1.csv"), in},
-		{filepath.Join(dir, ".", "sub", "..", "xs1.csv"), fileLink},
-	}
-	for _, tt := range tests {
-		err := WriteFile(tt.out, []string{"other.csv", tt.input}, func(w io.Writer) error {
-			_, err := io.WriteString(w, "overwritten")
-			return err
-		})
-		if !errors.Is(err, ErrWouldOverwriteInput) {
-			t.Errorf("WriteFile(%s) with input %s: err = %v, want ErrWouldOverwriteInput", tt.out, tt.input, err)
+	link := func(name, target string) string {
+		p := filepath.Join(dir, name)
+		if err := os.Symlink(target, p); err != nil {
+			t.Skip("symbolic links not available:", err)
 		}
-		if err != nil && !strings.Contains(err.Error(), tt.out) {
+		return p
+	}
+	fifoLink := link("pipe-link", fifo)
+	devLink := link("null-link", os.DevNull)
+	inLink := link("latest.csv", in)
+	dirLink := link("surveys", dir)
+	dangling := link("nowhere", filepath.Join(dir, "missing", "x"))
+	for _, c := range []struct {
+		out  string
+		want error
+	}{
+		{os.DevNull, ErrNotRegular},
+		{fifo, ErrNotRegular},
+		{fifoLink, ErrNotRegular},
+		{devLink, ErrNotRegular},
+		{dangling, ErrNotRegular},
+		{dir, ErrFolder},
+		{ro, ErrReadOnly},
+		{in, ErrInput},
+		{inLink, ErrInput},
+		{filepath.Join(dirLink, "xs1.csv"), ErrInput},
+		{filepath.Join(dir, ".", "sub", "..", "xs1.csv"), ErrInput},
+		{filepath.Join(in, "rating.csv"), ErrNoFolder},
+	} {
+		f := New(in)
+		if err := f.Check(c.out); !errors.Is(err, c.want) {
+			t.Errorf("Check(%s) = %v, want %v", c.out, err, c.want)
+		}
+		err := f.Write(c.out, text("overwritten"))
+		if !errors.Is(err, c.want) {
+			t.Errorf("Write(%s) = %v, want %v", c.out, err, c.want)
+		}
+		if err != nil && !strings.Contains(err.Error(), filepath.Base(c.out)) {
 			t.Errorf("error %q does not name the output", err)
 		}
+		f.Discard()
+	}
+	if st, err := os.Lstat(fifo); err != nil || st.Mode()&os.ModeNamedPipe == 0 {
+		t.Errorf("the pipe was replaced: %v %v", st.Mode(), err)
+	}
+	if st, err := os.Stat(os.DevNull); err != nil || st.Mode()&os.ModeCharDevice == 0 {
+		t.Errorf("%s was replaced", os.DevNull)
+	}
+	if got := readString(t, ro); got != "keep me\n" {
+		t.Errorf("read-only file changed to %q", got)
 	}
 	if got := readString(t, in); !strings.HasPrefix(got, "station") {
 		t.Errorf("input changed to %q", got)
 	}
-	if l := leftovers(t, dir, "xs1.csv", "latest.csv", "surveys"); len(l) > 0 {
+	if l := leftovers(t, dir, "xs1.csv", "pipe", "kept.csv", "pipe-link", "null-link", "latest.csv", "surveys", "nowhere"); len(l) > 0 {
 		t.Errorf("files left behind: %v", l)
 	}
 }
 
-// TestWriteFileInterrupted follows the interrupt path: the command's
-// signal handler calls RemoveTemps while a write is under way. No
-// temporary file remains, no output appears, an existing one is kept.
-func TestWriteFileInterrupted(t *testing.T) {
-	// The real program exits after RemoveTemps; the tests go on writing.
-	reopen := func() {
-		temps.Lock()
-		temps.closed = false
-		temps.Unlock()
+// A link to a regular file is followed: the file is replaced, the link
+// kept.
+func TestWriteThroughLink(t *testing.T) {
+	dir := t.TempDir()
+	target := filepath.Join(dir, "real.csv")
+	writeString(t, target, "old\n")
+	ln := filepath.Join(dir, "current.csv")
+	if err := os.Symlink(target, ln); err != nil {
+		t.Skip("symbolic links not available:", err)
 	}
-	defer reopen()
+	f := New()
+	if err := f.Write(ln, text("new\n")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if st, err := os.Lstat(ln); err != nil || st.Mode()&os.ModeSymlink == 0 {
+		t.Errorf("the link was replaced: %v", err)
+	}
+	if got := readString(t, target); got != "new\n" {
+		t.Errorf("target %q", got)
+	}
+}
+
+// Discard while a file is being written (what an interrupt does) leaves
+// no temporary file, no output, an existing output as it was, and
+// refuses later writes.
+func TestDiscardWhileWriting(t *testing.T) {
 	for _, existing := range []string{"", "old content\n"} {
-		reopen()
 		dir := t.TempDir()
 		out := filepath.Join(dir, "rating.csv")
 		if existing != "" {
 			writeString(t, out, existing)
 		}
-		err := WriteFile(out, nil, func(w io.Writer) error {
+		f := New()
+		err := f.Write(out, func(w io.Writer) error {
 			io.WriteString(w, "stage,discharge\n")
 			if l := leftovers(t, dir, "rating.csv"); len(l) != 1 {
 				t.Errorf("want one temporary file while writing, found %v", l)
 			}
-			RemoveTemps() // what the interrupt handler does
+			f.Discard()
 			_, err := io.WriteString(w, "1,2\n")
 			return err
 		})
-		if err == nil {
-			t.Errorf("interrupted write reported success")
+		if !errors.Is(err, ErrClosed) {
+			t.Errorf("interrupted write: %v, want ErrClosed", err)
 		}
 		if existing == "" {
 			if _, err := os.Stat(out); !os.IsNotExist(err) {
@@ -195,9 +303,21 @@ func TestWriteFileInterrupted(t *testing.T) {
 		if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
 			t.Errorf("files left behind: %v", l)
 		}
-		// After the clean-up no new temporary file can be made.
-		if err := WriteFile(filepath.Join(dir, "later.csv"), nil, func(io.Writer) error { return nil }); !errors.Is(err, errInterrupted) {
-			t.Errorf("write after the clean-up: %v, want errInterrupted", err)
+		if err := f.Write(filepath.Join(dir, "later.csv"), text("")); !errors.Is(err, ErrClosed) {
+			t.Errorf("write after Discard: %v, want ErrClosed", err)
 		}
+	}
+}
+
+func TestWrittenTwice(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "a.png")
+	f := New()
+	defer f.Discard()
+	if err := f.Write(out, text("1")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Write(out, text("2")); !errors.Is(err, ErrTwice) {
+		t.Errorf("second write of one file: %v, want ErrTwice", err)
 	}
 }

@@ -5,7 +5,6 @@ import (
 	"fmt"
 
 	"wetline/survey"
-	"wetline/survey/results"
 	"wetline/survey/workbook"
 )
 
@@ -61,17 +60,4 @@ func ExampleSig3Decimals() {
 	// 12.3
 	// 1.23
 	// 0.0123
-}
-
-// A lookup table starts at the tenth at or below the lowest ground and
-// steps by hundredths.
-func ExampleLookupStages() {
-	stages, err := results.LookupStages(100.34, 100.52)
-	if err != nil {
-		fmt.Println(err)
-		return
-	}
-	fmt.Println(len(stages), stages[0], stages[1], stages[len(stages)-1])
-	// Output:
-	// 23 100.3 100.31 100.52
 }

@@ -5,63 +5,32 @@ import (
 	"io"
 	"math"
 	"sort"
+	"strings"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/survey"
 	"wetline/survey/workbook"
 )
 
 // Sheet names of a fit results workbook that a rating workbook does not
 // have (it shares SheetSummary, SheetLookup and SheetPlots).
 const (
-	SheetGaugings = "gaugings"
+	// SheetGaugings is the field workbook's gaugings sheet name, so that
+	// a fit workbook's gaugings read back as gaugings.
+	SheetGaugings = survey.FieldSheetGaugings
 	SheetFitTable = "fitted rating"
 	SheetNByStage = "n by stage"
 )
 
-// FitWorkbook is everything the results workbook of the fit command shows.
-// Only Report is needed.
-type FitWorkbook struct {
-	// Report is the gaugings report (a fit, or a comparison only).
-	Report *gauged.Report
-	// Lookup holds the fitted rating at every hundredth of stage, marked
-	// where extrapolated (see FitLookupCells); none: no lookup sheet.
-	Lookup []LookupCell
-	// Source names the files read (gaugings, section), for the summary.
-	Source string
-	// Version is the program version stated in the summary.
-	Version string
-	// Pictures are embedded on a plots sheet (none: no sheet).
-	Pictures []workbook.Picture
-}
-
-// FitLookupCells evaluates a report's lookup-table rule (FitTable.At) at
-// every hundredth of stage from the gauge height of zero flow to the
-// table's top, marking the extrapolated ones. c is the hydraulic rating the
-// report was made with (nil when none). A report without a table gives no
-// cells; a range longer than MaxLookupStages is an ErrLookupRange error.
-func FitLookupCells(r *gauged.Report, c *rating.HydraulicCurve) ([]LookupCell, error) {
-	if r.Fit == nil || r.Table == nil || len(r.Table.Rows) == 0 {
-		return nil, nil
+// fitLookupCells turns a report's lookup rows into cells of a lookup
+// sheet, marking the extrapolated ones.
+func fitLookupCells(r *gauged.Report) []LookupCell {
+	out := make([]LookupCell, len(r.Lookup))
+	for i, row := range r.Lookup {
+		out[i] = LookupCell{Stage: row.Stage, Discharge: row.Discharge, Marked: row.Extrapolated()}
 	}
-	lo, hi := r.Table.Rows[0].Stage, r.Table.Rows[len(r.Table.Rows)-1].Stage
-	stages, err := LookupStages(lo, hi)
-	if err != nil {
-		return nil, err
-	}
-	out := make([]LookupCell, 0, len(stages))
-	for _, h := range stages {
-		if h < lo-lookupRound {
-			continue // below e: no flow, left blank
-		}
-		h = math.Max(h, lo) // on e within round-off
-		row, err := r.Table.At(r.Fit, c, h)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, LookupCell{Stage: h, Discharge: row.Discharge, Marked: row.Extrapolated()})
-	}
-	return out, nil
+	return out
 }
 
 // WriteFitWorkbook writes the results workbook of a gaugings report to w.
@@ -76,21 +45,20 @@ func FitLookupCells(r *gauged.Report, c *rating.HydraulicCurve) ([]LookupCell, e
 //     the columns of a field workbook's gaugings sheet) with its departure
 //     from the hydraulic rating and from the fit, its stage shift, its
 //     band flag, fitted discharge and residual, and its back-calculated n;
-//   - fitted rating: the fit's lookup table (FitTableColumns), the
+//   - fitted rating: the fit's lookup table (FitTableColumns()), the
 //     extrapolated rows in the marked style (Book.MarkStyle) and flagged
 //     "yes" in the extrapolated column;
-//   - lookup: fw.Lookup in the printed layout (WriteLookupCells),
+//   - lookup: the report's Lookup in the printed layout (WriteLookupCells),
 //     extrapolated cells marked;
 //   - n by stage: the back-calculated n of each gauging, by stage, when
 //     there is a calibration;
 //   - plots: the pictures, when given.
 //
 // Stages are gauge heights throughout.
-func WriteFitWorkbook(w io.Writer, fw FitWorkbook) error {
-	r := fw.Report
+func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 	b := newBook("wetline fit: " + r.Site)
 	defer b.Close()
-	if err := writeFitSummary(b, fw); err != nil {
+	if err := writeFitSummary(b, r); err != nil {
 		return err
 	}
 	if err := writeGaugingsSheet(b, r); err != nil {
@@ -101,8 +69,8 @@ func WriteFitWorkbook(w io.Writer, fw FitWorkbook) error {
 			return err
 		}
 	}
-	if len(fw.Lookup) > 0 {
-		if err := WriteLookupCells(b, SheetLookup, r.Units, fw.Lookup); err != nil {
+	if len(r.Lookup) > 0 {
+		if err := WriteLookupCells(b, SheetLookup, r.Units, fitLookupCells(r)); err != nil {
 			return err
 		}
 	}
@@ -111,8 +79,8 @@ func WriteFitWorkbook(w io.Writer, fw FitWorkbook) error {
 			return err
 		}
 	}
-	if len(fw.Pictures) > 0 {
-		if err := b.Pictures(SheetPlots, fw.Pictures); err != nil {
+	if len(r.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(r.Figures)); err != nil {
 			return err
 		}
 	}
@@ -128,14 +96,9 @@ func yes(b bool) any {
 }
 
 // writeFitSummary writes the summary sheet of a fit workbook.
-func writeFitSummary(b *workbook.Book, fw FitWorkbook) error {
-	r := fw.Report
+func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	version := fw.Version
-	if version == "" {
-		version = "unknown"
-	}
 	var items []SummaryItem
 	add := func(item string, v any, unit string) { items = append(items, SummaryItem{item, v, unit}) }
 	var err error
@@ -143,8 +106,8 @@ func writeFitSummary(b *workbook.Book, fw FitWorkbook) error {
 	// value); undefined numbers leave the item out.
 	num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
 	add("site", r.Site, "")
-	add("read from", fw.Source, "")
-	add("program", "wetline "+version, "")
+	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
+	add("program", programName(r.Provenance), "")
 	add("units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), "")
 	if r.Comparison != nil {
 		add("gauge datum", fmt.Sprintf("elevation = gauge height + %s", FormatFloat(r.Datum)), L)
@@ -206,7 +169,7 @@ func writeFitSummary(b *workbook.Book, fw FitWorkbook) error {
 		add("extrapolation", t.ScaleNote, "")
 		add("fitted rating sheet", "rows outside the gaugings are extrapolated: marked yes and shaded; below the lowest gauging the fit down to e, above the highest the scaled hydraulic rating", "")
 	}
-	if len(fw.Lookup) > 0 {
+	if len(r.Lookup) > 0 {
 		add("lookup sheet", "discharge at every hundredth of stage by the fitted rating sheet's rule (not interpolated); extrapolated cells shaded", "")
 	}
 	if err != nil {

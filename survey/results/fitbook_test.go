@@ -114,16 +114,12 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
 		gs = append(gs, gauged.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: law(h), Quality: rating.Good})
 	}
-	rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI})
-	if err != nil {
-		t.Fatal(err)
-	}
-	cells, err := results.FitLookupCells(rep, nil)
+	rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI, Lookup: true})
 	if err != nil {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if err := results.WriteFitWorkbook(&buf, results.FitWorkbook{Report: rep, Lookup: cells, Version: "test"}); err != nil {
+	if err := results.WriteFitWorkbook(&buf, rep); err != nil {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)
@@ -135,12 +131,12 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 	// (the fit's own tests), so the lookup agrees to this tolerance.
 	const recovered = 1e-5
 	last := 0.0
-	for _, c := range cells {
+	for _, c := range rep.Lookup {
 		if q := law(c.Stage); math.Abs(c.Discharge-q) > recovered*math.Max(q, 1e-3) {
 			t.Errorf("stage %.2f: %g, want %g", c.Stage, c.Discharge, q)
 		}
-		if c.Marked != (c.Stage < 0.5) {
-			t.Errorf("stage %.2f: marked %v", c.Stage, c.Marked)
+		if c.Extrapolated() != (c.Stage < 0.5) {
+			t.Errorf("stage %.2f: extrapolated %v", c.Stage, c.Extrapolated())
 		}
 		last = c.Stage
 	}
@@ -159,14 +155,14 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 // A slope-area report without a Monte Carlo analysis or figures: no
 // uncertainty or plots sheet, and the summary says so.
 func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
-	rep := results.SlopeAreaReport{Result: reach.SlopeArea{
+	rep := reach.Report{Result: reach.SlopeArea{
 		Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 12.5, Fall: 0.2, Length: 100,
 		Sections:   []reach.SectionResult{{ID: "A", WaterSurface: 10.2}, {ID: "B", Distance: 100, WaterSurface: 10}},
 		Subreaches: []reach.Subreach{{From: "A", To: "B", Length: 100, Fall: 0.2, Discharge: 12.5}},
 		Checks:     []reach.Check{{Name: "froude A", Value: 1.2, Limit: 1, Relation: "<", Source: "test"}},
 	}}
 	var buf bytes.Buffer
-	if err := results.WriteSlopeAreaWorkbook(&buf, rep, nil); err != nil {
+	if err := results.WriteSlopeAreaWorkbook(&buf, rep); err != nil {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)

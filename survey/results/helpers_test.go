@@ -1,6 +1,8 @@
 package results_test
 
 import (
+	"io"
+	"os"
 	"testing"
 
 	"github.com/xuri/excelize/v2"
@@ -16,4 +18,18 @@ func openBook(t *testing.T, path string) *excelize.File {
 	}
 	t.Cleanup(func() { f.Close() })
 	return f
+}
+
+// writeFile writes a file for a test (the safe writer is another
+// package's job).
+func writeFile(path string, write func(io.Writer) error) error {
+	f, err := os.Create(path)
+	if err != nil {
+		return err
+	}
+	if err := write(f); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
 }

@@ -28,7 +28,7 @@ func TestRatingRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	var buf bytes.Buffer
-	if err := results.WriteRatingCSV(&buf, want); err != nil {
+	if err := results.WriteRatingCSV(&buf, rating.RatingReport{Table: want}); err != nil {
 		t.Fatal(err)
 	}
 	got, err := survey.ParseRatingCSV(&buf, "box-rating.csv", rating.SI)

@@ -3,8 +3,8 @@ package results
 import (
 	"fmt"
 	"io"
+	"wetline/rating"
 	"wetline/rating/reach"
-	"wetline/survey"
 	"wetline/survey/workbook"
 )
 
@@ -18,11 +18,8 @@ const (
 	SheetUncertainty = "uncertainty"
 )
 
-// IndirectNote is stated by every slope-area report beside the caution.
-const IndirectNote = "Indirect estimates of a flood peak carry large uncertainty: review the marks, the n values and the checks."
-
 // WriteSlopeAreaWorkbook writes the results workbook of a slope-area
-// report to w, with pics (none: no plots sheet). Sheets:
+// report to w, with its figures (none: no plots sheet). Sheets:
 //
 //   - summary: the peak discharge and its band, the method and its source,
 //     the reach's length and fall, the units, the checks passed, the
@@ -38,45 +35,41 @@ const IndirectNote = "Indirect estimates of a flood peak carry large uncertainty
 //   - uncertainty: the Monte Carlo percentiles, settings and
 //     sensitivities, when run;
 //   - plots: the pictures.
-func WriteSlopeAreaWorkbook(w io.Writer, rep SlopeAreaReport, pics []workbook.Picture) error {
+func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	b := newBook("wetline slope-area: " + saReachName(rep))
 	defer b.Close()
-	for _, write := range []func(*workbook.Book, SlopeAreaReport) error{
+	for _, write := range []func(*workbook.Book, reach.Report) error{
 		writeSASummary, writeSAInputs, writeSASections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
 	} {
 		if err := write(b, rep); err != nil {
 			return err
 		}
 	}
-	if len(pics) > 0 {
-		if err := b.Pictures(SheetPlots, pics); err != nil {
+	if len(rep.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
 			return err
 		}
 	}
 	return b.Write(w)
 }
 
-// saReachName names the reach table read ("" when built in code).
-func saReachName(rep SlopeAreaReport) string {
-	if rep.Reach == nil {
+// saReachName names the reach table read ("reach" when built in code).
+func saReachName(rep reach.Report) string {
+	if rep.Name == "" {
 		return "reach"
 	}
-	return (&survey.ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+	return rep.Name
 }
 
-func writeSASummary(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSASummary(b *workbook.Book, rep reach.Report) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	version := rep.Version
-	if version == "" {
-		version = "unknown"
-	}
 	var err error
 	num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
 	items := []SummaryItem{
 		{"reach table", saReachName(rep), ""},
-		{"program", "wetline " + version, ""},
+		{"program", programName(rep.Provenance), ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), ""},
 		{"peak discharge", num(workbook.FormatSig3, r.Discharge), Q},
 	}
@@ -110,14 +103,14 @@ func writeSASummary(b *workbook.Book, rep SlopeAreaReport) error {
 		}
 	}
 	add("quality checks passed", fmt.Sprintf("%d of %d (see the checks sheet)", pass, len(r.Checks)), "")
-	add("indirect estimate", IndirectNote, "")
+	add("indirect estimate", rating.IndirectNote, "")
 	if err != nil {
 		return err
 	}
 	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
 }
 
-func writeSAInputs(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 	L := rep.Result.Units.Length()
 	s, err := b.Table(SheetReachInputs, []workbook.Column{
 		{Name: "section", Width: 12},
@@ -135,8 +128,8 @@ func writeSAInputs(b *workbook.Book, rep SlopeAreaReport) error {
 	}
 	for i, sec := range rep.Result.Sections {
 		vals := []any{sec.ID, nil, sec.Distance, sec.Left, sec.Right, nil, nil, sec.WaterSurface, sec.MarksUsed}
-		if rep.Reach != nil && i < len(rep.Reach.Rows) {
-			rr := rep.Reach.Rows[i]
+		if i < len(rep.Sections) {
+			rr := rep.Sections[i]
 			vals[1], vals[5], vals[6] = rr.Survey, rr.Quality.String(), rr.Note
 		}
 		if err := s.Row(vals...); err != nil {
@@ -146,7 +139,7 @@ func writeSAInputs(b *workbook.Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSASections(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSASections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
 	s, err := b.Table(SheetSections, []workbook.Column{
@@ -177,7 +170,7 @@ func writeSASections(b *workbook.Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSASubreaches(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
 	s, err := b.Table(SheetSubreaches, []workbook.Column{
@@ -209,7 +202,7 @@ func writeSASubreaches(b *workbook.Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSAChecks(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSAChecks(b *workbook.Book, rep reach.Report) error {
 	cols := []workbook.Column{
 		{Name: "check", Width: 30},
 		{Name: "value", Format: workbook.FormatSig3},
@@ -242,7 +235,7 @@ func writeSAChecks(b *workbook.Book, rep SlopeAreaReport) error {
 	return s.Flush()
 }
 
-func writeSAUncertainty(b *workbook.Book, rep SlopeAreaReport) error {
+func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 	un := rep.Uncertainty
 	if un == nil {
 		return nil

@@ -1,7 +1,6 @@
 package results
 
 import (
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -9,25 +8,7 @@ import (
 	"text/tabwriter"
 	"wetline/rating"
 	"wetline/rating/reach"
-	"wetline/survey"
 )
-
-// SlopeAreaReport is everything a slope-area report says: the reach as
-// read, the computed result, its uncertainty and the warnings. Writers of
-// other forms (a workbook, plots) take the same value.
-type SlopeAreaReport struct {
-	// Reach is the reach table and surveys as read (nil when the sections
-	// were built otherwise).
-	Reach *survey.Reach
-	// Result is the slope-area (or slope-conveyance) computation.
-	Result reach.SlopeArea
-	// Uncertainty is the Monte Carlo analysis; nil when none was run.
-	Uncertainty *reach.Uncertainty
-	// Warnings gathers the reach's, the result's and the analysis's.
-	Warnings []string
-	// Version is the program version stated in the report.
-	Version string
-}
 
 type jsonSASection struct {
 	ID              string `json:"id"`
@@ -96,7 +77,7 @@ type jsonUncertainty struct {
 // "subreach_min","subreach_max","subreach_spread","sections":[...],
 // "subreaches":[...],"checks":[...],"uncertainty":{...} or null,
 // "warnings":[...],"caution"}. Undefined values are null.
-func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
+func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 	r := rep.Result
 	out := struct {
 		Method         string            `json:"method"`
@@ -132,8 +113,8 @@ func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
 			HydraulicDepth: Float(s.HydraulicDepth), Conveyance: Float(s.Conveyance), Alpha: Float(s.Alpha),
 			Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
 			Froude: Float(s.Froude)}
-		if rep.Reach != nil && i < len(rep.Reach.Rows) {
-			js.Survey, js.Quality = rep.Reach.Rows[i].Survey, rep.Reach.Rows[i].Quality.String()
+		if i < len(rep.Sections) {
+			js.Survey, js.Quality = rep.Sections[i].Survey, rep.Sections[i].Quality.String()
 		}
 		out.Sections = append(out.Sections, js)
 	}
@@ -160,32 +141,14 @@ func WriteSlopeAreaJSON(w io.Writer, rep SlopeAreaReport) error {
 		}
 		out.Uncertainty = ju
 	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(out)
-}
-
-// saFixed formats a value with a fixed number of decimals, "-" when undefined.
-func saFixed(v float64, decimals int) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "-"
-	}
-	return fmt.Sprintf("%.*f", decimals, v)
-}
-
-// saSig formats a value to 4 significant figures, "-" when undefined.
-func saSig(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "-"
-	}
-	return fmt.Sprintf("%.4g", v)
+	return writeJSON(w, out)
 }
 
 // WriteSlopeAreaText writes a slope-area report for a reviewer: the
 // estimate and its band first, then the inputs, each section and subreach,
 // the checks with their sources, the uncertainty settings and
 // sensitivities, the warnings and the caution.
-func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
+func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
@@ -204,26 +167,26 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	if r.Method == reach.MethodSlopeConveyance {
 		title = "Single-section slope-conveyance flood peak (weaker method)"
 	}
-	if rep.Reach != nil {
-		title += ": " + (&survey.ParseError{File: rep.Reach.File, Sheet: rep.Reach.Sheet}).Position()
+	if rep.Name != "" {
+		title += ": " + rep.Name
 	}
 	line("%s", title)
-	if rep.Version != "" {
-		line("wetline %s, %s units (lengths %s, discharge %s)", rep.Version, strings.ToUpper(u.String()), L, Q)
+	if rep.Provenance.Program != "" {
+		line("%s, %s units (lengths %s, discharge %s)", rep.Provenance.Program, strings.ToUpper(u.String()), L, Q)
 	} else {
 		line("%s units (lengths %s, discharge %s)", strings.ToUpper(u.String()), L, Q)
 	}
 	line("")
-	line("Peak discharge  %s %s", saSig(r.Discharge), Q)
+	line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
 	if un := rep.Uncertainty; un != nil {
 		line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
-			saSig(un.P05), saSig(un.P95), Q, saSig(un.P50), un.Draws-un.Failed)
+			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
 		line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
-		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", saSig(r.SubreachMin), saSig(r.SubreachMax), Q, saFixed(100*r.SubreachSpread, 1))
-		line("  reach         length %s %s, fall %s %s, water surface from %s marks", saFixed(r.Length, 1), L, saFixed(r.Fall, 3), L, saSideWords(r.Side))
+		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+		line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
 		line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
@@ -232,9 +195,9 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	line("Inputs (reach table)")
 	rows := [][]string{}
 	for i, s := range r.Sections {
-		row := []string{s.ID, saFixed(s.Distance, 1), saFixed(s.Left, 3), saFixed(s.Right, 3), saFixed(s.WaterSurface, 3), "", "", ""}
-		if rep.Reach != nil && i < len(rep.Reach.Rows) {
-			rr := rep.Reach.Rows[i]
+		row := []string{s.ID, fixed(s.Distance, 1), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
+		if i < len(rep.Sections) {
+			rr := rep.Sections[i]
 			row[5], row[6], row[7] = saDash(rr.Quality.String()), rr.Survey, rr.Note
 		}
 		rows = append(rows, row)
@@ -245,8 +208,8 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	line("Sections at the peak discharge")
 	rows = rows[:0]
 	for _, s := range r.Sections {
-		rows = append(rows, []string{s.ID, saFixed(s.Bottom, 3), saFixed(s.WaterSurface-s.Bottom, 2), saFixed(s.Area, 2), saFixed(s.TopWidth, 2),
-			saFixed(s.Conveyance, 0), saFixed(s.Alpha, 3), saFixed(s.Velocity, 2), saFixed(s.VelocityHead, 3), saFixed(s.EnergyGrade, 3), saFixed(s.Froude, 2)})
+		rows = append(rows, []string{s.ID, fixed(s.Bottom, 3), fixed(s.WaterSurface-s.Bottom, 2), fixed(s.Area, 2), fixed(s.TopWidth, 2),
+			fixed(s.Conveyance, 0), fixed(s.Alpha, 3), fixed(s.Velocity, 2), fixed(s.VelocityHead, 3), fixed(s.EnergyGrade, 3), fixed(s.Froude, 2)})
 	}
 	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
 		u.Area(), u.Conveyance(), u.Velocity()), rows)
@@ -260,8 +223,8 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 			if s.Expanding {
 				kind = "expanding"
 			}
-			rows = append(rows, []string{s.From + " to " + s.To, saFixed(s.Length, 1), saFixed(s.Fall, 3), saSig(s.Discharge), kind,
-				saFixed(s.EddyK, 1), saFixed(s.FrictionLoss, 3), saFixed(s.VelocityHeadChange, 3), saFixed(s.EddyLoss, 3), saFixed(s.ConveyanceRatio, 2)})
+			rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, 1), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+				fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 		}
 		table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", Q), rows)
 	}
@@ -276,7 +239,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 	line("Quality checks (%d of %d pass)", pass, len(r.Checks))
 	rows = rows[:0]
 	for _, c := range r.Checks {
-		rows = append(rows, []string{c.Status(), c.Name, saSig(c.Value) + " " + c.Relation + " " + saSig(c.Limit), c.Source})
+		rows = append(rows, []string{c.Status(), c.Name, sig(c.Value, 4) + " " + c.Relation + " " + sig(c.Limit, 4), c.Source})
 	}
 	table("status\tcheck\tvalue vs limit\tsource", rows)
 
@@ -288,13 +251,13 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 		sds := make([]string, 0, len(un.WaterSurfaceSD))
 		for i, v := range un.WaterSurfaceSD {
 			if i < len(r.Sections) {
-				sds = append(sds, r.Sections[i].ID+" "+saFixed(v, 3))
+				sds = append(sds, r.Sections[i].ID+" "+fixed(v, 3))
 			}
 		}
 		line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
-		line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", saSig(un.P05), saSig(un.P50), saSig(un.P95), saSig(un.Mean), saSig(un.SD), Q)
+		line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
 		line("  draws          %d, %d without a solution", un.Draws, un.Failed)
-		line("  dQ/dn          %s %s per 0.001 of every n", saSig(un.DQDN*0.001), Q)
+		line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDN*0.001, 4), Q)
 		parts := make([]string, len(un.DQDH))
 		for i, v := range un.DQDH {
 			id := ""
@@ -314,7 +277,7 @@ func WriteSlopeAreaText(w io.Writer, rep SlopeAreaReport) error {
 		}
 	}
 	line("")
-	line("Indirect estimates of a flood peak carry large uncertainty: review the marks, the n values and the checks above.")
+	line("%s", rating.IndirectNote)
 	line("Caution: %s", rating.Caution)
 	_, err := io.WriteString(w, b.String())
 	return err

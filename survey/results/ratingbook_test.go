@@ -22,7 +22,6 @@ import (
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
-	"wetline/survey/output"
 	"wetline/survey/results"
 	"wetline/survey/workbook"
 )
@@ -61,7 +60,7 @@ func wbTallow(t testing.TB) (coarse, fine rating.Table) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	stages, err := results.LookupStages(p.Bottom(), p.Top())
+	stages, err := rating.LookupStages(p.Bottom(), p.Top())
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -103,7 +102,7 @@ func TestLookupStages(t *testing.T) {
 		{0, 1e6, 0, 0, 0, true},
 		{math.NaN(), 1, 0, 0, 0, true},
 	} {
-		got, err := results.LookupStages(tc.bottom, tc.top)
+		got, err := rating.LookupStages(tc.bottom, tc.top)
 		if tc.wantErr {
 			if err == nil {
 				t.Errorf("%g..%g: no error", tc.bottom, tc.top)
@@ -132,7 +131,7 @@ func wbPNG(w, h int) []byte {
 	return buf.Bytes()
 }
 
-func writeResults(t *testing.T, rw results.RatingWorkbook) *excelize.File {
+func writeResults(t *testing.T, rw rating.RatingReport) *excelize.File {
 	t.Helper()
 	var buf bytes.Buffer
 	if err := results.WriteRatingWorkbook(&buf, rw); err != nil {
@@ -163,10 +162,11 @@ func TestRatingWorkbook(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	pics := []workbook.Picture{{Name: "rating curve", PNG: wbPNG(1600, 1000)}, {Name: "section", PNG: wbPNG(200, 100)}}
-	f := writeResults(t, results.RatingWorkbook{
-		Table: coarse, Lookup: fine, Source: "tallow-xs1.csv", Version: "9.8.7",
-		Warnings: []string{"a warning for the reader"}, Pictures: pics, Survey: sv,
+	pics := []rating.Figure{{Caption: "rating curve", PNG: wbPNG(1600, 1000)}, {Caption: "section", PNG: wbPNG(200, 100)}}
+	f := writeResults(t, rating.RatingReport{
+		Table: coarse, Lookup: fine, Provenance: rating.Provenance{Program: "wetline 9.8.7"},
+		Ground:   rating.Ground{Section: sv.Section, Labels: sv.Labels, Notes: sv.Notes, Source: "tallow-xs1.csv"},
+		Warnings: []string{"a warning for the reader"}, Figures: pics,
 	})
 	if got, want := f.GetSheetList(), []string{"summary", "rating", "lookup", "subsections", "survey", "plots"}; !slices.Equal(got, want) {
 		t.Fatalf("sheets %v, want %v", got, want)
@@ -336,7 +336,7 @@ func TestRatingWorkbook(t *testing.T) {
 
 func TestRatingWorkbookMinimal(t *testing.T) {
 	coarse, _ := wbTallow(t)
-	f := writeResults(t, results.RatingWorkbook{Table: coarse})
+	f := writeResults(t, rating.RatingReport{Table: coarse})
 	if got, want := f.GetSheetList(), []string{"summary", "rating", "subsections"}; !slices.Equal(got, want) {
 		t.Errorf("sheets %v, want %v", got, want)
 	}
@@ -344,8 +344,8 @@ func TestRatingWorkbookMinimal(t *testing.T) {
 
 func TestRatingWorkbookBadPicture(t *testing.T) {
 	coarse, _ := wbTallow(t)
-	err := results.WriteRatingWorkbook(&bytes.Buffer{}, results.RatingWorkbook{Table: coarse,
-		Pictures: []workbook.Picture{{Name: "broken", PNG: []byte("GIF89a")}}})
+	err := results.WriteRatingWorkbook(&bytes.Buffer{}, rating.RatingReport{Table: coarse,
+		Figures: []rating.Figure{{Caption: "broken", PNG: []byte("GIF89a")}}})
 	if err == nil || !strings.Contains(err.Error(), `"broken"`) {
 		t.Errorf("error %v, want one naming the picture", err)
 	}
@@ -390,8 +390,8 @@ func TestLookupGolden(t *testing.T) {
 		{"coarse", coarse, sameStage},
 	} {
 		path := filepath.Join(dir, tc.name+".xlsx")
-		if err := output.WriteFile(path, nil, func(w io.Writer) error {
-			return results.WriteRatingWorkbook(w, results.RatingWorkbook{Table: tc.table, Lookup: fine})
+		if err := writeFile(path, func(w io.Writer) error {
+			return results.WriteRatingWorkbook(w, rating.RatingReport{Table: tc.table, Lookup: fine})
 		}); err != nil {
 			t.Fatal(err)
 		}
@@ -468,7 +468,7 @@ func TestLookupGolden(t *testing.T) {
 func TestStreamedColumnsAscending(t *testing.T) {
 	coarse, fine := wbTallow(t)
 	var buf bytes.Buffer
-	if err := results.WriteRatingWorkbook(&buf, results.RatingWorkbook{Table: coarse, Lookup: fine}); err != nil {
+	if err := results.WriteRatingWorkbook(&buf, rating.RatingReport{Table: coarse, Lookup: fine}); err != nil {
 		t.Fatal(err)
 	}
 	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
@@ -512,7 +512,7 @@ func TestStreamedColumnsAscending(t *testing.T) {
 func TestLongTitle(t *testing.T) {
 	coarse, _ := wbTallow(t)
 	coarse.Name = strings.Repeat("Mill & Tallow ", 40)
-	f := writeResults(t, results.RatingWorkbook{Table: coarse})
+	f := writeResults(t, rating.RatingReport{Table: coarse})
 	hf, err := f.GetHeaderFooter("rating")
 	if err != nil || !strings.Contains(hf.OddHeader, "Mill && Tallow") || !strings.Contains(hf.OddHeader, "…") {
 		t.Errorf("header %q (%v)", hf.OddHeader, err)

@@ -2,7 +2,6 @@ package results
 
 import (
 	"bufio"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -12,16 +11,20 @@ import (
 	"wetline/rating"
 )
 
-// RatingColumns are the leading column names of a rating table, in order.
+// RatingColumns returns the leading column names of a rating table, in order.
 // They are a contract with scripts; add columns after them, never between.
-var RatingColumns = []string{
-	"stage", "depth", "area", "wetted_perimeter", "top_width", "hydraulic_radius",
-	"conveyance", "discharge", "mean_velocity", "alpha", "froude",
+func RatingColumns() []string {
+	return []string{
+		"stage", "depth", "area", "wetted_perimeter", "top_width", "hydraulic_radius",
+		"conveyance", "discharge", "mean_velocity", "alpha", "froude",
+	}
 }
 
-// ExtraRatingColumns follow the per-subsection discharges, which follow
-// RatingColumns.
-var ExtraRatingColumns = []string{"hydraulic_depth", "beta", "shear_stress"}
+// ExtraRatingColumns() follow the per-subsection discharges, which follow
+// RatingColumns().
+func ExtraRatingColumns() []string {
+	return []string{"hydraulic_depth", "beta", "shear_stress"}
+}
 
 // SubsectionColumn names the discharge column of subsection i (0-based).
 func SubsectionColumn(t rating.Table, i int) string {
@@ -44,8 +47,8 @@ func regionTag(r string) string {
 // what a gauge reader needs. Everything else keeps 6 significant digits.
 var lengthColumn = map[int]bool{0: true, 1: true}
 
-// rowValues returns a row's values in column order: RatingColumns, one
-// discharge per subsection, then ExtraRatingColumns.
+// rowValues returns a row's values in column order: RatingColumns(), one
+// discharge per subsection, then ExtraRatingColumns().
 func rowValues(r rating.Row) []float64 {
 	v := mainValues(r)
 	for _, s := range r.Subs {
@@ -54,65 +57,34 @@ func rowValues(r rating.Row) []float64 {
 	return append(v, extraValues(r)...)
 }
 
-// mainValues returns a row's values of RatingColumns.
+// mainValues returns a row's values of RatingColumns().
 func mainValues(r rating.Row) []float64 {
 	return []float64{r.Stage, r.Depth, r.Area, r.WettedPerimeter, r.TopWidth, r.HydraulicRadius,
 		r.Conveyance, r.Discharge, r.MeanVelocity, r.Alpha, r.Froude}
 }
 
-// extraValues returns a row's values of ExtraRatingColumns.
+// extraValues returns a row's values of ExtraRatingColumns().
 func extraValues(r rating.Row) []float64 {
 	return []float64{r.HydraulicDepth, r.Beta, r.ShearStress}
 }
 
 // ratingCSVColumns names the columns of a rating table in CSV order.
 func ratingCSVColumns(t rating.Table) []string {
-	cols := append([]string(nil), RatingColumns...)
+	cols := append([]string(nil), RatingColumns()...)
 	for i := range t.Subsections {
 		cols = append(cols, SubsectionColumn(t, i))
 	}
-	return append(cols, ExtraRatingColumns...)
+	return append(cols, ExtraRatingColumns()...)
 }
 
-// FormatFloat writes v with 6 significant digits, and "" for NaN or ±Inf
-// (an undefined value).
-func FormatFloat(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return ""
-	}
-	if v == 0 {
-		return "0"
-	}
-	return strconv.FormatFloat(v, 'g', 6, 64)
-}
-
-// LengthDecimals is the number of decimals written for stages, depths and
-// other lengths: 0.1 mm or 0.0001 ft, finer than any survey.
-const LengthDecimals = 4
-
-// FormatLength writes a length (stage, depth, width) with LengthDecimals
-// decimals, trailing zeros dropped, and "" when undefined.
-func FormatLength(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return ""
-	}
-	if math.Abs(v) >= 1e12 {
-		return FormatFloat(v) // no survey is this large; keep the cell short
-	}
-	s := strconv.FormatFloat(v, 'f', LengthDecimals, 64)
-	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
-	if s == "-0" {
-		s = "0"
-	}
-	return s
-}
-
-// WriteRatingCSV writes a rating table as CSV: a header row of column names
-// (RatingColumns, one discharge column per subsection, ExtraRatingColumns
-// and flags), then one row per stage. Undefined values are empty cells.
-// Units are those of t.Units; the CSV has no comment lines, so it loads
-// into any spreadsheet.
-func WriteRatingCSV(w io.Writer, t rating.Table) error {
+// WriteRatingCSV writes a rating report's table as CSV: a header row of
+// column names (RatingColumns(), one discharge column per subsection,
+// ExtraRatingColumns() and flags), then one row per stage. Undefined values
+// are empty cells. Units are those of the table; the CSV has no comment
+// lines, so it loads into any spreadsheet (the warnings and the caution
+// are for the console: see WriteRatingSummary).
+func WriteRatingCSV(w io.Writer, rep rating.RatingReport) error {
+	t := rep.Table
 	bw := bufio.NewWriter(w)
 	cols := append(ratingCSVColumns(t), "flags")
 	writeRecord(bw, cols)
@@ -130,28 +102,6 @@ func WriteRatingCSV(w io.Writer, t rating.Table) error {
 		writeRecord(bw, rec)
 	}
 	return bw.Flush()
-}
-
-func writeRecord(w *bufio.Writer, rec []string) {
-	for i, s := range rec {
-		if i > 0 {
-			w.WriteByte(',')
-		}
-		w.WriteString(s)
-	}
-	w.WriteByte('\n')
-}
-
-// Float is a float64 that encodes NaN and ±Inf as JSON null.
-type Float float64
-
-// MarshalJSON writes null for undefined values.
-func (f Float) MarshalJSON() ([]byte, error) {
-	v := float64(f)
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return []byte("null"), nil
-	}
-	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
 }
 
 type jsonSub struct {
@@ -186,18 +136,11 @@ type jsonRow struct {
 	Flags           []string  `json:"flags"`
 }
 
-// UnitNames lists the unit of each quantity for a report header.
-func UnitNames(u rating.Units) map[string]string {
-	return map[string]string{
-		"system": u.String(), "length": u.Length(), "area": u.Area(),
-		"discharge": u.Discharge(), "velocity": u.Velocity(), "shear_stress": u.Stress(),
-	}
-}
-
-// WriteRatingJSON writes a rating table as one JSON object:
+// WriteRatingJSON writes a rating report as one JSON object:
 // {"section","units","slope","rows":[...],"warnings":[...],"caution"}.
 // Undefined values are null.
-func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
+func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
+	t, warnings := rep.Table, rep.Warnings
 	rows := make([]jsonRow, len(t.Rows))
 	for i, r := range t.Rows {
 		jr := jsonRow{
@@ -233,15 +176,14 @@ func WriteRatingJSON(w io.Writer, t rating.Table, warnings []string) error {
 		Warnings []string          `json:"warnings"`
 		Caution  string            `json:"caution"`
 	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, warnings, rating.Caution}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(out)
+	return writeJSON(w, out)
 }
 
-// WriteRatingText writes a rating table as aligned columns for reading on a
-// console: a title, the units, the main columns, the warnings and the
+// WriteRatingText writes a rating report as aligned columns for reading
+// on a console: a title, the units, the main columns, the warnings and the
 // caution.
-func WriteRatingText(w io.Writer, t rating.Table, warnings []string) error {
+func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
+	t, warnings := rep.Table, rep.Warnings
 	u := t.Units
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "Rating of %s at friction slope %g (%s units: stage and lengths %s, area %s, discharge %s)\n\n",

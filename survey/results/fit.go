@@ -2,7 +2,6 @@ package results
 
 import (
 	"bufio"
-	"encoding/json"
 	"fmt"
 	"io"
 	"math"
@@ -12,33 +11,37 @@ import (
 	"wetline/rating/gauged"
 )
 
-// FitTableColumns are the columns of a fitted lookup table as CSV, in
+// FitTableColumns returns the columns of a fitted lookup table as CSV, in
 // order. They are a contract with scripts; add columns after them.
-var FitTableColumns = []string{"stage", "discharge", "extrapolated", "basis", "lower_95", "upper_95", "hydraulic"}
+func FitTableColumns() []string {
+	return []string{"stage", "discharge", "extrapolated", "basis", "lower_95", "upper_95", "hydraulic"}
+}
 
-// ComparisonColumns are the columns of a gauging comparison as CSV.
-var ComparisonColumns = []string{"time", "stage", "discharge", "quality", "rated", "departure_percent", "shift",
-	"outside_band", "factor_on_n", "n", "source"}
+// ComparisonColumns returns the columns of a gauging comparison as CSV.
+func ComparisonColumns() []string {
+	return []string{"time", "stage", "discharge", "quality", "rated", "departure_percent", "shift",
+		"outside_band", "factor_on_n", "n", "source"}
+}
 
 // GaugingTimeLayout is how gauging times are written.
 const GaugingTimeLayout = "2006-01-02T15:04:05"
 
-// WriteGaugingReportCSV writes the lookup table of a fit (FitTableColumns),
+// WriteFitCSV writes the lookup table of a fit (FitTableColumns()),
 // or, in comparison-only mode, the gaugings against the hydraulic rating
-// (ComparisonColumns). Stages are gauge heights; undefined values are
+// (ComparisonColumns()). Stages are gauge heights; undefined values are
 // empty cells. The CSV has no comment lines: the datum is stated by the
 // text and JSON reports.
-func WriteGaugingReportCSV(w io.Writer, r *gauged.Report) error {
+func WriteFitCSV(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	if r.Table != nil {
-		writeRecord(bw, FitTableColumns)
+		writeRecord(bw, FitTableColumns())
 		for _, row := range r.Table.Rows {
 			writeRecord(bw, []string{FormatFloat(row.Stage), FormatFloat(row.Discharge), fmt.Sprint(row.Extrapolated()),
 				row.Basis.String(), FormatFloat(row.Lower), FormatFloat(row.Upper), FormatFloat(row.Hydraulic)})
 		}
 		return bw.Flush()
 	}
-	writeRecord(bw, ComparisonColumns)
+	writeRecord(bw, ComparisonColumns())
 	for i, g := range r.Gaugings {
 		rec := []string{g.Time.Format(GaugingTimeLayout), FormatFloat(g.Stage), FormatFloat(g.Discharge), g.Quality.String()}
 		if r.Comparison != nil {
@@ -117,7 +120,7 @@ type jsonBreak struct {
 	Fixed bool  `json:"fixed"`
 }
 
-// WriteGaugingReportJSON writes a gaugings report as one JSON object:
+// WriteFitJSON writes a gaugings report as one JSON object:
 //
 //	{"site","units","datum","slope","zero_flow":{...},"segments":[...],
 //	 "breakpoints":[...],"standard_error_percent","gaugings":[...],
@@ -129,7 +132,7 @@ type jsonBreak struct {
 // departure_percent and shift against the fit, and the same against the
 // hydraulic rating; each table row stage, discharge and extrapolated.
 // Stages are gauge heights. Parts that do not apply are null or empty.
-func WriteGaugingReportJSON(w io.Writer, r *gauged.Report) error {
+func WriteFitJSON(w io.Writer, r *gauged.Report) error {
 	out := struct {
 		Site          string            `json:"site"`
 		Units         map[string]string `json:"units"`
@@ -197,16 +200,14 @@ func WriteGaugingReportJSON(w io.Writer, r *gauged.Report) error {
 				Float(row.Lower), Float(row.Upper), Float(row.Hydraulic)})
 		}
 	}
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(out)
+	return writeJSON(w, out)
 }
 
-// WriteGaugingReportText writes a gaugings report for reading: the datum,
+// WriteFitText writes a gaugings report for reading: the datum,
 // the fitted equation with standard errors, every gauging's departures,
 // the back-calculated n, the lookup table with extrapolated rows marked,
 // the warnings and the caution.
-func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
+func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
@@ -227,18 +228,18 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 		if f.ZeroFlowFixed {
 			p("  e = %.4f %s (%s)\n", f.ZeroFlow, L, f.ZeroFlowSource)
 		} else {
-			p("  e = %.4f ± %s %s (fitted)\n", f.ZeroFlow, fitSig(f.ZeroFlowSE, 2), L)
+			p("  e = %.4f ± %s %s (fitted)\n", f.ZeroFlow, sig(f.ZeroFlowSE, 2), L)
 		}
 		for i, b := range f.Breaks {
 			if f.BreaksFixed {
 				p("  breakpoint %d at %.4f %s (given)\n", i+1, b, L)
 			} else {
-				p("  breakpoint %d at %.4f ± %s %s\n", i+1, b, fitSig(f.BreaksSE[i], 2), L)
+				p("  breakpoint %d at %.4f ± %s %s\n", i+1, b, sig(f.BreaksSE[i], 2), L)
 			}
 		}
 		for i, s := range f.Segments {
 			p("  segment %d, %.3f to %.3f %s: C = %s ± %s, b = %.4f ± %s\n", i+1, s.From, s.To, L,
-				fitSig(s.Coefficient, 5), fitSig(s.CoefficientSE, 2), s.Exponent, fitSig(s.ExponentSE, 2))
+				sig(s.Coefficient, 5), sig(s.CoefficientSE, 2), s.Exponent, sig(s.ExponentSE, 2))
 		}
 		p("  standard error of estimate %.2f %% (%.4f in ln Q)\n", f.StandardErrorPercent, f.StandardErrorLog)
 		if !math.IsNaN(f.MoreSegmentsP) {
@@ -255,21 +256,21 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 	}
 	p("\n")
 	for i, g := range r.Gaugings {
-		p("  %-19s %9.3f %10s %-9s", g.Time.Format(GaugingTimeLayout), g.Stage, fitSig(g.Discharge, 5), g.Quality)
+		p("  %-19s %9.3f %10s %-9s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality)
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
-			p(" %10s %7s%s %8s", fitSig(res.Fitted, 5), fitFixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fitFixed(res.Shift, 3))
+			p(" %10s %7s%s %8s", sig(res.Fitted, 5), fixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fixed(res.Shift, 3))
 		}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
 			f, n := calPoint(r, i)
-			p(" %10s %7s%s %8s %8s %7s", fitSig(c.Fitted, 5), fitFixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fitFixed(c.Shift, 3), fitFixed(f, 3), fitFixed(n, 4))
+			p(" %10s %7s%s %8s %8s %7s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3), fixed(f, 3), fixed(n, 4))
 		}
 		p("\n")
 	}
 	if c := r.Comparison; c != nil {
 		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
-			fitFixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
+			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
 	}
 	if c := r.Calibration; c != nil {
 		which := "every subsection's n"
@@ -277,13 +278,13 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 			which = "the channel's n"
 		}
 		p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
-			which, c.Factor, fitFixed(c.StandardErrorPercent, 2))
+			which, c.Factor, fixed(c.StandardErrorPercent, 2))
 		pts := append([]gauged.NPoint(nil), c.Points...)
 		sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
 		p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
 		p("  %9s %9s %8s\n", "stage", "factor", "n")
 		for _, pt := range pts {
-			p("  %9.3f %9s %8s\n", pt.Stage, fitFixed(pt.Factor, 4), fitFixed(pt.N, 4))
+			p("  %9.3f %9s %8s\n", pt.Stage, fixed(pt.Factor, 4), fixed(pt.N, 4))
 		}
 	}
 	if t := r.Table; t != nil {
@@ -297,7 +298,7 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 			if row.Extrapolated() {
 				mark = "x"
 			}
-			p("  %9.3f %11s %11s %11s %s %s\n", row.Stage, fitSig(row.Discharge, 5), fitSig(row.Lower, 5), fitSig(row.Upper, 5), mark, row.Basis)
+			p("  %9.3f %11s %11s %11s %s %s\n", row.Stage, sig(row.Discharge, 5), sig(row.Lower, 5), sig(row.Upper, 5), mark, row.Basis)
 		}
 	}
 	if len(r.Warnings) > 0 {
@@ -308,20 +309,6 @@ func WriteGaugingReportText(w io.Writer, r *gauged.Report) error {
 	}
 	p("\ncaution: %s\n", rating.Caution)
 	return bw.Flush()
-}
-
-func fitSig(v float64, n int) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "-"
-	}
-	return fmt.Sprintf("%.*g", n, v)
-}
-
-func fitFixed(v float64, n int) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "-"
-	}
-	return fmt.Sprintf("%.*f", n, v)
 }
 
 func fitStar(b bool) string {

@@ -1,7 +1,6 @@
 package results
 
 import (
-	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -22,65 +21,6 @@ const (
 	SheetPlots       = "plots"
 )
 
-// RatingWorkbook is everything a results workbook of the rate command
-// shows. The zero value of every field but Table is useful.
-type RatingWorkbook struct {
-	// Table is the rating table as computed (any stages, any order).
-	Table rating.Table
-	// Lookup is the same section rated at every hundredth of a unit of
-	// stage (see LookupStages); with no rows the lookup sheet is left out.
-	Lookup rating.Table
-	// Source names the survey read (file and sheet), for the summary.
-	Source string
-	// Version is the program version stated in the summary.
-	Version string
-	// Warnings are shown on the summary sheet.
-	Warnings []string
-	// Survey is the survey as read (no points: no survey sheet). Its
-	// sheet has the columns of a field workbook's cross-section sheet, so
-	// ReadSection can read it back from the results workbook.
-	Survey survey.Survey
-	// Pictures are embedded on a plots sheet (none: no sheet).
-	Pictures []workbook.Picture
-}
-
-// MaxLookupStages bounds the stages of a lookup table (a tenth as many rows).
-const MaxLookupStages = 200_000
-
-// ErrLookupRange is returned by LookupStages for a range too long to print.
-var ErrLookupRange = errors.New("stage range too long for a lookup table")
-
-// LookupStages returns the stages of a lookup table from bottom to top:
-// every hundredth of a unit, k/100 for integer k, starting at the tenth at
-// or below bottom (stages below the ground are dry: zero discharge) and
-// ending at the last hundredth at or below top.
-func LookupStages(bottom, top float64) ([]float64, error) {
-	if math.IsNaN(bottom) || math.IsNaN(top) || math.IsInf(bottom, 0) || math.IsInf(top, 0) || top < bottom {
-		return nil, fmt.Errorf("%w: from %g to %g", ErrLookupRange, bottom, top)
-	}
-	k0 := int64(math.Floor(bottom*10+lookupRound)) * 10
-	k1 := int64(math.Floor(top*100 + lookupRound))
-	if k1-k0+1 > MaxLookupStages {
-		return nil, fmt.Errorf("%w: %d stages from %g to %g is more than %d", ErrLookupRange, k1-k0+1, bottom, top, MaxLookupStages)
-	}
-	out := make([]float64, 0, k1-k0+1)
-	for k := k0; k <= k1; k++ {
-		out = append(out, float64(k)/100)
-	}
-	return out, nil
-}
-
-// lookupRound absorbs round-off when a stage is turned into hundredths
-// (a stage within 1e-6 of a hundredth is taken to be on it).
-const lookupRound = 1e-6
-
-// hundredths returns a stage as an integer number of hundredths, and
-// whether it lies on one (within lookupRound).
-func hundredths(h float64) (int64, bool) {
-	k := math.Round(h * 100)
-	return int64(k), math.Abs(h*100-k) <= lookupRound*100
-}
-
 // WriteRatingWorkbook writes a results workbook to w. Sheets:
 //
 //   - summary: section, source, program version, units, slope, banks,
@@ -91,7 +31,7 @@ func hundredths(h float64) (int64, bool) {
 //   - lookup: discharge by stage in the printed layout of hydrometry, one
 //     row per tenth of a unit of stage and ten columns for the hundredths.
 //     Each cell is the hydraulics computed at that exact stage (taken from
-//     rw.Lookup, no interpolation), so it agrees with the rating sheet
+//     rep.Lookup, no interpolation), so it agrees with the rating sheet
 //     wherever both hold the same stage; a cell whose stage was not
 //     computed (above the section's top) is blank;
 //   - subsections: per stage and subsection, its n, area, wetted
@@ -102,30 +42,31 @@ func hundredths(h float64) (int64, bool) {
 //
 // Every table sheet is streamed, so memory stays bounded for any number of
 // rows.
-func WriteRatingWorkbook(w io.Writer, rw RatingWorkbook) error {
-	b := newBook("wetline rating: " + rw.Table.Name)
+func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
+	b := newBook("wetline rating: " + rep.Table.Name)
 	defer b.Close()
-	if err := writeSummary(b, rw); err != nil {
+	if err := writeSummary(b, rep); err != nil {
 		return err
 	}
-	if err := WriteRatingSheet(b, SheetRating, rw.Table); err != nil {
+	if err := WriteRatingSheet(b, SheetRating, rep.Table); err != nil {
 		return err
 	}
-	if len(rw.Lookup.Rows) > 0 {
-		if err := WriteLookupSheet(b, SheetLookup, rw.Lookup); err != nil {
+	if len(rep.Lookup.Rows) > 0 {
+		if err := WriteLookupSheet(b, SheetLookup, rep.Lookup); err != nil {
 			return err
 		}
 	}
-	if err := WriteSubsectionSheet(b, SheetSubsections, rw.Table); err != nil {
+	if err := WriteSubsectionSheet(b, SheetSubsections, rep.Table); err != nil {
 		return err
 	}
-	if len(rw.Survey.Section.Points) > 0 {
-		if err := survey.WriteSurveySheet(b, SheetSurvey, rw.Survey, rw.Table.Units); err != nil {
+	if g := rep.Ground; len(g.Section.Points) > 0 {
+		sv := survey.Survey{Section: g.Section, Labels: g.Labels, Notes: g.Notes}
+		if err := survey.WriteSurveySheet(b, SheetSurvey, sv, rep.Table.Units); err != nil {
 			return err
 		}
 	}
-	if len(rw.Pictures) > 0 {
-		if err := b.Pictures(SheetPlots, rw.Pictures); err != nil {
+	if len(rep.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
 			return err
 		}
 	}
@@ -213,7 +154,7 @@ func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []Loo
 	q := map[int64]LookupCell{}
 	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
 	for _, c := range cells {
-		k, ok := hundredths(c.Stage)
+		k, ok := rating.Hundredths(c.Stage)
 		if !ok {
 			continue
 		}
@@ -317,11 +258,13 @@ func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 	return s.Flush()
 }
 
-// SummaryColumns are the columns of a summary sheet: item, value, unit.
-var SummaryColumns = []workbook.Column{
-	{Name: "item", Width: 34},
-	{Name: "value", Width: 70},
-	{Name: "unit", Width: 10},
+// SummaryColumns returns the columns of a summary sheet: item, value, unit.
+func SummaryColumns() []workbook.Column {
+	return []workbook.Column{
+		{Name: "item", Width: 34},
+		{Name: "value", Width: 70},
+		{Name: "unit", Width: 10},
+	}
 }
 
 // SummaryItem is one row of a summary sheet. Value is a string, a number
@@ -332,12 +275,12 @@ type SummaryItem struct {
 	Unit  string
 }
 
-// WriteSummarySheet writes a summary sheet (SummaryColumns): the items in
+// WriteSummarySheet writes a summary sheet (SummaryColumns()): the items in
 // order, then one row per warning ("warnings: none" when there are none),
 // then the caution (rating.Caution), which every report carries. Items whose
 // value is "" or nil are left out.
 func WriteSummarySheet(b *workbook.Book, name string, items []SummaryItem, warnings []string) error {
-	s, err := b.Table(name, SummaryColumns)
+	s, err := b.Table(name, SummaryColumns())
 	if err != nil {
 		return err
 	}
@@ -381,17 +324,13 @@ func WriteSummarySheet(b *workbook.Book, name string, items []SummaryItem, warni
 }
 
 // writeSummary writes the summary sheet of a results workbook.
-func writeSummary(b *workbook.Book, rw RatingWorkbook) error {
-	t := rw.Table
+func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
+	t := rep.Table
 	u := t.Units
-	version := rw.Version
-	if version == "" {
-		version = "unknown"
-	}
 	items := []SummaryItem{
 		{"section", t.Name, ""},
-		{"survey", rw.Source, ""},
-		{"program", "wetline " + version, ""},
+		{"survey", rep.Ground.Source, ""},
+		{"program", programName(rep.Provenance), ""},
 		{"method", "Manning's equation by subsection, conveyance summed (Chow, 1959)", ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, u.Length(), u.Discharge()), ""},
 		{"friction slope", t.Slope, u.Length() + "/" + u.Length()},
@@ -406,28 +345,19 @@ func writeSummary(b *workbook.Book, rw RatingWorkbook) error {
 	for i, sub := range t.Subsections {
 		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""})
 	}
-	if n := len(t.Rows); n > 0 {
-		lo, hi := t.Rows[0], t.Rows[0]
-		for _, r := range t.Rows {
-			if r.Stage < lo.Stage {
-				lo = r
-			}
-			if r.Stage > hi.Stage {
-				hi = r
-			}
-		}
+	if lo, hi, ok := t.Extremes(); ok {
 		q, err := b.Sig3(hi.Discharge)
 		if err != nil {
 			return err
 		}
 		items = append(items,
-			SummaryItem{"stages rated", fmt.Sprintf("%d, from %.3f to %.3f", n, lo.Stage, hi.Stage), u.Length()},
+			SummaryItem{"stages rated", fmt.Sprintf("%d, from %.3f to %.3f", len(t.Rows), lo.Stage, hi.Stage), u.Length()},
 			SummaryItem{"discharge at the highest stage", q, u.Discharge()})
 	}
-	if len(rw.Lookup.Rows) > 0 {
+	if len(rep.Lookup.Rows) > 0 {
 		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
 	}
-	return WriteSummarySheet(b, SheetSummary, items, rw.Warnings)
+	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
 }
 
 // newBook starts a results workbook whose printed pages carry title at

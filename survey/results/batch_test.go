@@ -57,7 +57,7 @@ func TestLongRatingWriter(t *testing.T) {
 		!strings.HasPrefix(lines[1], "\"a,b\",0,0,0,") || !strings.HasPrefix(lines[4], "c,1,1,1,") {
 		t.Errorf("long table:\n%s", b.String())
 	}
-	if n := strings.Count(lines[0], ","); n != len(RatingColumns)+len(ExtraRatingColumns) {
-		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns)+len(ExtraRatingColumns))
+	if n := strings.Count(lines[0], ","); n != len(RatingColumns())+len(ExtraRatingColumns()) {
+		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns())+len(ExtraRatingColumns()))
 	}
 }

@@ -1,4 +1,4 @@
-package main
+package batch_test
 
 import (
 	"context"
@@ -11,6 +11,9 @@ import (
 	"strings"
 	"testing"
 	"time"
+	"wetline/rating"
+	"wetline/survey/batch"
+	"wetline/survey/output"
 )
 
 // Size of the batch benchmark: sections, points per section, and the
@@ -67,26 +70,23 @@ func BenchmarkBatch(b *testing.B) {
 		b.Fatal(err)
 	}
 	writeBenchSurveys(b, in, benchSections)
-	f := &rateFlags{slope: 0.001, from: 100, to: 105, step: 0.025}
-	f.units = "si"
-	jobs, _, err := listSurveys([]string{in}, "", "csv")
+	jobs, _, err := batch.List([]string{in}, "", "csv")
 	if err != nil {
 		b.Fatal(err)
 	}
+	opt := batch.Options{Stages: rating.StageSpec{From: 100, To: 105, Step: 0.025}, Rating: rating.Options{Slope: 0.001}}
 	cores := float64(runtime.GOMAXPROCS(0))
-	pool := func(bt *batch) time.Duration {
+	pool := func(opt batch.Options) time.Duration {
 		start := time.Now()
-		err := orderedPool(context.Background(), len(jobs), runtime.GOMAXPROCS(0),
-			func(i int) batchResult { return bt.rate(jobs[i]) },
-			func(i int, r batchResult) error {
-				if r.entry.Err != "" {
-					return fmt.Errorf("%s: %s", r.entry.Section, r.entry.Err)
-				}
-				if bt.compute && r.entry.Rows != benchStages {
-					return fmt.Errorf("%s: %d rows", r.entry.Section, r.entry.Rows)
-				}
-				return nil
-			})
+		err := batch.Run(context.Background(), jobs, opt, func(i int, r batch.Result) error {
+			if r.Entry.Err != "" {
+				return fmt.Errorf("%s: %s", r.Entry.Section, r.Entry.Err)
+			}
+			if !opt.ReadOnly && r.Entry.Rows != benchStages {
+				return fmt.Errorf("%s: %d rows", r.Entry.Section, r.Entry.Rows)
+			}
+			return nil
+		})
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -95,18 +95,20 @@ func BenchmarkBatch(b *testing.B) {
 	perCore := func(b *testing.B, d time.Duration) {
 		b.ReportMetric(benchSections*benchStages/d.Seconds()/cores, "section-stages/s/core")
 	}
+	readOnly := opt
+	readOnly.ReadOnly = true
 	b.Run("read", func(b *testing.B) {
 		var d time.Duration
 		for b.Loop() {
-			d = pool(&batch{f: f, format: "csv"})
+			d = pool(readOnly)
 		}
 		perCore(b, d)
 	})
 	b.Run("rate", func(b *testing.B) {
 		var read, rated time.Duration
 		for b.Loop() {
-			read = pool(&batch{f: f, format: "csv"})
-			rated = pool(&batch{f: f, format: "csv", compute: true})
+			read = pool(readOnly)
+			rated = pool(opt)
 		}
 		perCore(b, rated)
 		b.ReportMetric((rated-read).Seconds()/read.Seconds(), "compute/read")
@@ -114,14 +116,17 @@ func BenchmarkBatch(b *testing.B) {
 	b.Run("rate+write", func(b *testing.B) {
 		var d time.Duration
 		for b.Loop() {
-			out := filepath.Join(dir, "out")
-			os.RemoveAll(out)
-			var sink strings.Builder
 			start := time.Now()
-			err := run(context.Background(), &env{stdout: &sink, stderr: &sink}, []string{
-				"rate", in, "--slope", "0.001", "--from", "100", "--to", "105", "--step", "0.025", "-o", out})
+			files := output.New()
+			sum, err := batch.Folder(context.Background(), files, filepath.Join(dir, "out"), "csv", jobs, opt)
+			if err == nil {
+				err = sum.Err("")
+			}
+			if err == nil {
+				err = files.Commit()
+			}
 			if err != nil {
-				b.Fatal(err, sink.String())
+				b.Fatal(err)
 			}
 			d = time.Since(start)
 		}

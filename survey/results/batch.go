@@ -29,19 +29,21 @@ type IndexEntry struct {
 	Err      string
 }
 
-// IndexColumns are the column names of a batch index table, in order.
-var IndexColumns = []string{"section", "source", "output", "rows", "stage_min", "stage_max",
-	"bankfull_stage", "bankfull_discharge", "warnings", "error"}
+// IndexColumns returns the column names of a batch index table, in order.
+func IndexColumns() []string {
+	return []string{"section", "source", "output", "rows", "stage_min", "stage_max",
+		"bankfull_stage", "bankfull_discharge", "warnings", "error"}
+}
 
 // WarningSeparator joins several warnings in one cell.
 const WarningSeparator = " | "
 
 // WriteIndexCSV writes the index of a batch rating: a header row
-// (IndexColumns) and one row per entry, in the order given. Undefined
+// (IndexColumns()) and one row per entry, in the order given. Undefined
 // numbers are empty cells.
 func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 	cw := csv.NewWriter(w)
-	cw.Write(IndexColumns)
+	cw.Write(IndexColumns())
 	for _, e := range entries {
 		cw.Write([]string{e.Section, e.Source, e.Output, strconv.Itoa(e.Rows),
 			FormatFloat(e.StageMin), FormatFloat(e.StageMax),
@@ -53,7 +55,7 @@ func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 }
 
 // LongRatingWriter writes the rating tables of many sections as one long
-// CSV table: a "section" column, then RatingColumns and ExtraRatingColumns.
+// CSV table: a "section" column, then RatingColumns() and ExtraRatingColumns().
 // Per-subsection discharges are left out, as sections differ in their
 // subsections.
 type LongRatingWriter struct {
@@ -64,7 +66,7 @@ type LongRatingWriter struct {
 // NewLongRatingWriter writes the header row and returns the writer.
 func NewLongRatingWriter(w io.Writer) *LongRatingWriter {
 	l := &LongRatingWriter{cw: csv.NewWriter(w)}
-	cols := append(append([]string{"section"}, RatingColumns...), ExtraRatingColumns...)
+	cols := append(append([]string{"section"}, RatingColumns()...), ExtraRatingColumns()...)
 	l.cw.Write(cols)
 	l.rec = make([]string, len(cols))
 	return l

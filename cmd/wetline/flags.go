@@ -1,0 +1,189 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strconv"
+	"strings"
+
+	"github.com/spf13/pflag"
+)
+
+// flagSet is a subcommand's flags with its usage line.
+type flagSet struct {
+	*pflag.FlagSet
+	usage string
+}
+
+// newFlags returns a flag set for a subcommand with -h/--help defined, so
+// help goes to stdout.
+func newFlags(name, usage string) *flagSet {
+	fs := pflag.NewFlagSet(name, pflag.ContinueOnError)
+	fs.SortFlags = false
+	fs.BoolP("help", "h", false, "show this help")
+	fs.Usage = func() {}
+	fs.SetOutput(io.Discard)
+	return &flagSet{FlagSet: fs, usage: usage}
+}
+
+// parse parses args; it prints help to stdout and returns errHelp for -h,
+// wraps parse errors as usage errors, and refuses a number flag given a
+// value that is not finite (NaN, Inf).
+func (fs *flagSet) parse(e *env, args []string) error {
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, pflag.ErrHelp) {
+			return fs.help(e.stdout)
+		}
+		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
+	}
+	if h, _ := fs.GetBool("help"); h {
+		return fs.help(e.stdout)
+	}
+	var bad error
+	fs.Visit(func(f *pflag.Flag) {
+		if bad != nil || f.Value.Type() != "float64" {
+			return
+		}
+		if v, err := strconv.ParseFloat(f.Value.String(), 64); err == nil && (math.IsNaN(v) || math.IsInf(v, 0)) {
+			bad = usagef("%s: --%s %s: want a finite number", fs.Name(), f.Name, f.Value.String())
+		}
+	})
+	return bad
+}
+
+// help prints the usage line and the flags, and returns errHelp.
+func (fs *flagSet) help(w io.Writer) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "Usage: wetline %s\n\n", fs.usage)
+	fs.VisitAll(func(f *pflag.Flag) {
+		name := "--" + f.Name
+		if f.Shorthand != "" {
+			name = "-" + f.Shorthand + ", " + name
+		}
+		if typ := f.Value.Type(); typ != "bool" {
+			name += " " + argName(typ)
+		}
+		def := ""
+		switch f.DefValue {
+		case "", "false", "0", "[]", "NaN":
+		default:
+			def = fmt.Sprintf(" (default %s)", f.DefValue)
+		}
+		fmt.Fprintf(&b, "  %-24s %s%s\n", name, f.Usage, def)
+	})
+	if _, err := io.WriteString(w, b.String()); err != nil {
+		return err
+	}
+	return errHelp
+}
+
+// argName names a flag's argument in help by its type.
+func argName(typ string) string {
+	switch typ {
+	case "float64", "int", "int64", "uint64":
+		return "NUM"
+	case "numbers":
+		return "LIST"
+	}
+	return "TEXT"
+}
+
+// positive refuses a flag that was given and is not above zero.
+func (fs *flagSet) positive(names ...string) error {
+	for _, n := range names {
+		f := fs.Lookup(n)
+		if f == nil || !f.Changed {
+			continue
+		}
+		if v, err := strconv.ParseFloat(f.Value.String(), 64); err != nil || !(v > 0) {
+			return usagef("%s: --%s %s: want a positive number", fs.Name(), n, f.Value.String())
+		}
+	}
+	return nil
+}
+
+// needs refuses flags that were given without the flag they depend on.
+func (fs *flagSet) needs(flag string, given bool, names ...string) error {
+	if given {
+		return nil
+	}
+	for _, n := range names {
+		if fs.Changed(n) {
+			return usagef("%s: --%s needs %s", fs.Name(), n, flag)
+		}
+	}
+	return nil
+}
+
+// numbers is a flag holding a comma-separated list of numbers; spaces
+// around each number are allowed, anything else not a number is refused
+// with the flag's text.
+type numbers []float64
+
+func (n *numbers) String() string {
+	parts := make([]string, len(*n))
+	for i, v := range *n {
+		parts[i] = strconv.FormatFloat(v, 'g', -1, 64)
+	}
+	return strings.Join(parts, ",")
+}
+
+func (n *numbers) Set(s string) error {
+	var out []float64
+	for _, f := range strings.Split(s, ",") {
+		f = strings.TrimSpace(f)
+		v, err := strconv.ParseFloat(f, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return fmt.Errorf("%q is not a finite number", f)
+		}
+		out = append(out, v)
+	}
+	*n = out
+	return nil
+}
+
+func (n *numbers) Type() string { return "numbers" }
+
+// outputFormat picks the format from the flag, else from the output
+// file's extension (.txt is text), else the first allowed one for
+// standard output. An extension the command cannot write is refused.
+func outputFormat(cmd, flag, output string, allowed ...string) (string, error) {
+	f := strings.ToLower(flag)
+	if f != "" {
+		for _, a := range allowed {
+			if a == f {
+				return f, nil
+			}
+		}
+		return "", usagef("%s: --format %q: want one of %s", cmd, flag, strings.Join(allowed, ", "))
+	}
+	if output == "" || output == "-" {
+		return allowed[0], nil
+	}
+	ext := strings.TrimPrefix(strings.ToLower(filepath.Ext(output)), ".")
+	if ext == "txt" {
+		ext = "text"
+	}
+	for _, a := range allowed {
+		if a == ext {
+			return a, nil
+		}
+	}
+	return "", usagef("%s: -o %s: cannot tell the format from the extension %q: name the file .%s, or give --format",
+		cmd, output, filepath.Ext(output), strings.Join(extensions(allowed), ", ."))
+}
+
+// extensions lists the file extensions of formats.
+func extensions(formats []string) []string {
+	out := make([]string, len(formats))
+	for i, f := range formats {
+		if f == "text" {
+			f = "txt"
+		}
+		out[i] = f
+	}
+	return out
+}

@@ -1,0 +1,229 @@
+package plotting
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/rating/reach"
+	"wetline/subdivide"
+)
+
+// The figures of a report are drawn in memory, each into a rating.Figure
+// named Base-kind.png, so that a run writes its files only once every
+// figure is drawn. Warnings of each figure are prefixed with its kind.
+
+// RatingFigures are the inputs of the figures of a rating table.
+type RatingFigures struct {
+	// Site and Subtitle title the figures; Base starts their file names.
+	Site, Base, Subtitle string
+	// Table is the rating.
+	Table rating.Table
+	// Ground is the surveyed section; without points there is no section
+	// figure and no bankfull line.
+	Ground rating.Ground
+	// ZeroFlow is the gauge height of zero flow for the log–log panel (NaN:
+	// from the table).
+	ZeroFlow float64
+	// Geometry is how the section was wetted (pockets), for the section
+	// figure.
+	Geometry subdivide.Options
+	// Size is the pixel size (zero value: the default).
+	Size Size
+}
+
+// figureSet collects drawn figures and their warnings.
+type figureSet struct {
+	base     string
+	figs     []rating.Figure
+	warnings []string
+}
+
+// add draws one figure named base-kind.png.
+func (s *figureSet) add(kind, caption string, draw func(w io.Writer) (Result, error)) error {
+	var buf bytes.Buffer
+	res, err := draw(&buf)
+	if err != nil {
+		return fmt.Errorf("%s figure: %w", kind, err)
+	}
+	for _, w := range res.Warnings {
+		s.warnings = append(s.warnings, kind+" figure: "+w)
+	}
+	s.figs = append(s.figs, rating.Figure{Name: s.base + "-" + kind + ".png", Caption: caption, PNG: buf.Bytes()})
+	return nil
+}
+
+// DrawRating draws the rating, cross-section (with a ground line) and
+// properties figures of a rating table. A table without geometry columns
+// has no properties figure (said in a warning).
+func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: in.Base}
+	t := in.Table
+	sub := in.Subtitle
+	if t.Slope > 0 {
+		sub = fmt.Sprintf("hydraulic rating by Manning's equation, friction slope %g, %s units; %s",
+			t.Slope, strings.ToUpper(t.Units.String()), sub)
+	}
+	rp := RatingPlot{Site: in.Site, Section: t.Name, Subtitle: strings.TrimSuffix(sub, "; "), Units: t.Units,
+		Hydraulic: CurveFromTable(t, ""), Size: in.Size}
+	if !math.IsNaN(in.ZeroFlow) {
+		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
+	}
+	bankfull, hasBankfull := in.Ground.Section.Bankfull()
+	rp.Bankfull, rp.HasBankfull = bankfull, hasBankfull
+	if err := set.add("rating", "stage–discharge rating, linear and log–log", func(w io.Writer) (Result, error) {
+		return Rating(w, rp)
+	}); err != nil {
+		return nil, nil, err
+	}
+	if len(in.Ground.Section.Points) > 0 {
+		if err := set.add("section", "surveyed cross-section with subsections and water surfaces", func(w io.Writer) (Result, error) {
+			return CrossSection(w, SectionPlot{Site: in.Site, Section: in.Ground.Section, Units: t.Units,
+				Marks: in.Ground.Labels, Water: waterSurfaces(t, bankfull, hasBankfull), Geometry: in.Geometry, Size: in.Size})
+		}); err != nil {
+			return nil, nil, err
+		}
+	}
+	err := set.add("properties", "area, top width, hydraulic radius, conveyance, alpha and velocity against stage", func(w io.Writer) (Result, error) {
+		return Properties(w, PropertiesPlot{Site: in.Site, Section: t.Name, Units: t.Units,
+			Rows: PropertiesFromTable(t), Bankfull: bankfull, HasBankfull: hasBankfull, Size: in.Size})
+	})
+	if err != nil {
+		set.warnings = append(set.warnings, "no properties figure: "+err.Error())
+	}
+	return set.figs, set.warnings, nil
+}
+
+// waterSurfaces are the lines of a rating's section figure: bankfull,
+// and the highest rated stage when it is above bankfull.
+func waterSurfaces(t rating.Table, bankfull float64, hasBankfull bool) []WaterSurface {
+	water := []WaterSurface{}
+	if hasBankfull {
+		water = append(water, WaterSurface{Stage: bankfull, Label: "bankfull", Shade: true})
+	}
+	if _, top, ok := t.StageRange(); ok && (!hasBankfull || top > bankfull) {
+		water = append(water, WaterSurface{Stage: top, Label: "highest rated stage", Shade: !hasBankfull})
+	}
+	return water
+}
+
+// DrawFit draws the rating figure of a gaugings report: the gaugings by
+// quality against the hydraulic rating and the fitted rating
+// (extrapolated rows dashed) with its band. Stages are gauge heights.
+func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	rp := fitPlot(rep, site)
+	rp.Size = size
+	if err := set.add("fit", "gaugings against the hydraulic and fitted ratings, with the fit's band", func(w io.Writer) (Result, error) {
+		return Rating(w, rp)
+	}); err != nil {
+		return nil, nil, err
+	}
+	return set.figs, set.warnings, nil
+}
+
+// fitPlot lays out a gaugings report as a rating plot.
+func fitPlot(rep *gauged.Report, site string) RatingPlot {
+	rp := RatingPlot{Site: site, Section: rep.Site, Units: rep.Units}
+	var sub []string
+	if rep.Curve != nil {
+		c := Curve{Label: fmt.Sprintf("hydraulic rating (Manning, slope %g)", rep.Slope)}
+		for _, p := range rep.Curve {
+			c.Points = append(c.Points, RatingPoint{Stage: p.Stage, Discharge: p.Hydraulic})
+		}
+		rp.Hydraulic = c
+		sub = append(sub, fmt.Sprintf("gauge heights; gauge zero at elevation %g %s", rep.Datum, rep.Units.Length()))
+	}
+	if t := rep.Table; t != nil {
+		c := Curve{Label: "fitted rating Q = C(h − e)^b"}
+		for _, r := range t.Rows {
+			c.Points = append(c.Points, RatingPoint{Stage: r.Stage, Discharge: r.Discharge, Extrapolated: r.Extrapolated()})
+			if !math.IsNaN(r.Lower) && !math.IsNaN(r.Upper) {
+				rp.Band = append(rp.Band, BandPoint{Stage: r.Stage, Low: r.Lower, High: r.Upper})
+			}
+		}
+		rp.Fitted = c
+		rp.BandLabel = "95 % band of the fitted mean relation"
+		if t.ScaleNote != "" {
+			rp.Notes = append(rp.Notes, t.ScaleNote)
+		}
+	}
+	if f := rep.Fit; f != nil {
+		rp.ZeroFlow, rp.HasZeroFlow = f.ZeroFlow, true
+		sub = append(sub, fmt.Sprintf("%d-segment power-law fit, standard error %.1f %%", len(f.Segments), f.StandardErrorPercent))
+	}
+	for _, g := range rep.Gaugings {
+		rp.Gaugings = append(rp.Gaugings, Gauging{Stage: g.Stage, Discharge: g.Discharge, Quality: g.Quality})
+	}
+	rp.Subtitle = strings.Join(sub, "; ")
+	return rp
+}
+
+// DrawReach draws the reach profile and the sections overlaid of a
+// slope-area report. site titles them; base starts their file names.
+func DrawReach(rep reach.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	rp := reachPlot(rep, site)
+	rp.Size = size
+	for _, f := range []struct {
+		kind, caption string
+		draw          func(io.Writer, ReachPlot) (Result, error)
+	}{
+		{"profile", "reach profile: thalweg, high-water marks, water surface and energy grade line", ReachProfile},
+		{"sections", "the reach's sections overlaid at their thalwegs, with water surfaces", ReachSections},
+	} {
+		if err := set.add(f.kind, f.caption, func(w io.Writer) (Result, error) { return f.draw(w, rp) }); err != nil {
+			return nil, nil, err
+		}
+	}
+	return set.figs, set.warnings, nil
+}
+
+// reachPlot lays out a slope-area report as a reach plot.
+func reachPlot(rep reach.Report, site string) ReachPlot {
+	r := rep.Result
+	name := rep.Name
+	if site != "" {
+		name = "" // the site names the reach; keep the title on one line
+	}
+	rp := ReachPlot{Site: site, Reach: name, Units: r.Units,
+		Subtitle: fmt.Sprintf("%s; water surface from %s", r.Method, sideWords(r.Side))}
+	for _, s := range r.Sections {
+		rs := ReachSection{ID: s.ID, Distance: s.Distance, Ground: s.Ground, Bed: s.Bottom,
+			WaterSurface: s.WaterSurface, VelocityHead: s.VelocityHead}
+		if !math.IsNaN(s.Left) {
+			rs.Marks = append(rs.Marks, HighWaterMark{Side: Left, Elevation: s.Left})
+		}
+		if !math.IsNaN(s.Right) {
+			rs.Marks = append(rs.Marks, HighWaterMark{Side: Right, Elevation: s.Right})
+		}
+		rp.Sections = append(rp.Sections, rs)
+	}
+	note := fmt.Sprintf("peak discharge %s %s", sig3(r.Discharge), r.Units.Discharge())
+	if u := rep.Uncertainty; u != nil {
+		note += fmt.Sprintf(", 90 %% band %s to %s %s (Monte Carlo, %d draws)", sig3(u.P05), sig3(u.P95), r.Units.Discharge(), u.Draws)
+	}
+	rp.Notes = []string{note}
+	return rp
+}
+
+// sideWords says which marks set the water surface.
+func sideWords(s reach.Side) string {
+	switch s {
+	case reach.LeftSide, reach.RightSide:
+		return "the " + s.String() + " marks"
+	}
+	return "the mean of the left and right marks"
+}
+
+// sig3 formats a value to three significant figures for a note.
+func sig3(v float64) string {
+	if math.IsNaN(v) {
+		return "-"
+	}
+	return fmt.Sprintf("%.3g", v)
+}

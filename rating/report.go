@@ -1,0 +1,217 @@
+package rating
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"wetline/subdivide"
+)
+
+// Provenance says what a report was computed from and by what, so that
+// every format of it can state it.
+type Provenance struct {
+	// Program names the program and its version, as "wetline 0.2.0".
+	Program string
+	// Inputs are the files read, as given; a workbook sheet follows its
+	// file in brackets: field.xlsx['XS-2'].
+	Inputs []string
+}
+
+// Figure is a picture of a report: a PNG image, the file name it is
+// written under, and a caption saying what it shows.
+type Figure struct {
+	Name, Caption string
+	PNG           []byte
+}
+
+// Ground is a surveyed section as it was read, for the reports that show
+// it: the ground line with its n and banks after any overrides, and each
+// point's label (a mark other than bank) and note.
+type Ground struct {
+	// Section is the ground line; no points for a built closed conduit.
+	Section subdivide.Section
+	// Labels and Notes hold one entry per point ("" for none); either may
+	// be nil.
+	Labels, Notes []string
+	// Source names the survey: its file (and sheet), or a shape's spec.
+	Source string
+}
+
+// RatingReport is the report of a section's stage–discharge rating: the
+// table as asked for, the same section rated at every hundredth for a
+// printed lookup sheet, the ground, the warnings and the figures.
+type RatingReport struct {
+	Provenance Provenance
+	// Table is the rating at the stages asked for, in their order.
+	Table Table
+	// Lookup is the rating at every hundredth of a unit of stage over the
+	// table's range (LookupStages); no rows when not asked for or when the
+	// range is too long.
+	Lookup Table
+	// Ground is the section as surveyed.
+	Ground Ground
+	// Warnings gathers the warnings of the survey and the table.
+	Warnings []string
+	// Figures are the report's pictures (none until drawn).
+	Figures []Figure
+}
+
+// RateOptions configure Rate. The zero value of Lookup leaves the lookup
+// table out.
+type RateOptions struct {
+	Options
+	// Lookup also rates every hundredth of stage over the table's range.
+	Lookup bool
+}
+
+// Rate computes the rating report of geometry g at the given stages
+// (Compute), and with opt.Lookup the lookup table at every hundredth over
+// the same range (a range too long for it gives a warning and no lookup
+// table). The report's Ground, Provenance and Figures are left for the
+// caller. Errors are Compute's.
+func Rate(g subdivide.Geometry, stages []float64, opt RateOptions) (RatingReport, error) {
+	t, err := Compute(g, stages, opt.Options)
+	rep := RatingReport{Table: t, Warnings: append([]string(nil), t.Warnings...)}
+	if err != nil || !opt.Lookup {
+		return rep, err
+	}
+	lo, hi, ok := t.StageRange()
+	if !ok {
+		return rep, nil
+	}
+	fine, err := LookupStages(lo, hi)
+	if err != nil {
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("no lookup table: %v", err))
+		return rep, nil
+	}
+	if rep.Lookup, err = Compute(g, fine, opt.Options); err != nil {
+		return rep, fmt.Errorf("lookup table: %w", err)
+	}
+	return rep, nil
+}
+
+// StageRange returns the lowest and highest stage of the table's rows;
+// ok is false for a table without rows.
+func (t Table) StageRange() (lo, hi float64, ok bool) {
+	l, h, ok := t.Extremes()
+	if !ok {
+		return math.NaN(), math.NaN(), false
+	}
+	return l.Stage, h.Stage, true
+}
+
+// Extremes returns the rows of the lowest and the highest stage (the
+// first of equal stages); ok is false for a table without rows.
+func (t Table) Extremes() (lo, hi Row, ok bool) {
+	if len(t.Rows) == 0 {
+		return Row{}, Row{}, false
+	}
+	lo, hi = t.Rows[0], t.Rows[0]
+	for _, r := range t.Rows[1:] {
+		if r.Stage < lo.Stage {
+			lo = r
+		}
+		if r.Stage > hi.Stage {
+			hi = r
+		}
+	}
+	return lo, hi, true
+}
+
+// MaxLookupStages bounds the stages of a lookup table (a tenth as many
+// printed rows).
+const MaxLookupStages = 200_000
+
+// ErrLookupRange is returned by LookupStages for a range too long to print.
+var ErrLookupRange = errors.New("stage range too long for a lookup table")
+
+// maxExactInteger is the largest integer a float64 holds exactly, 2^53.
+const maxExactInteger = 1 << 53
+
+// lookupRound absorbs round-off when a stage is turned into hundredths:
+// a stage within lookupRound hundredths of one is taken to be on it.
+const lookupRound = 1e-6
+
+// LookupStages returns the stages of a lookup table from bottom to top:
+// every hundredth of a unit, k/100 for integer k, starting at the tenth at
+// or below bottom (stages below the ground are dry: zero discharge) and
+// ending at the last hundredth at or below top. A range of more than
+// MaxLookupStages stages, or one that is not finite, is ErrLookupRange.
+func LookupStages(bottom, top float64) ([]float64, error) {
+	if !finiteAll(bottom, top) || top < bottom {
+		return nil, fmt.Errorf("%w: from %g to %g", ErrLookupRange, bottom, top)
+	}
+	if math.Abs(bottom)*100 > maxExactInteger || math.Abs(top)*100 > maxExactInteger {
+		return nil, fmt.Errorf("%w: stages of %g to %g are too large to count in hundredths", ErrLookupRange, bottom, top)
+	}
+	k0 := int64(math.Floor(bottom*10+lookupRound)) * 10
+	k1 := int64(math.Floor(top*100 + lookupRound))
+	if k1-k0+1 > MaxLookupStages {
+		return nil, fmt.Errorf("%w: %d stages from %g to %g is more than %d", ErrLookupRange, k1-k0+1, bottom, top, MaxLookupStages)
+	}
+	out := make([]float64, 0, k1-k0+1)
+	for k := k0; k <= k1; k++ {
+		out = append(out, float64(k)/100)
+	}
+	return out, nil
+}
+
+// Hundredths returns a stage as an integer number of hundredths of a unit,
+// and whether it lies on one (within round-off).
+func Hundredths(h float64) (int64, bool) {
+	k := math.Round(h * 100)
+	return int64(k), math.Abs(h*100-k) <= lookupRound*100
+}
+
+// StageSpec is how the stages of a table are asked for: a list, or a
+// range from From to To in steps of Step. NaN in From, To or Step means
+// the default: the lowest ground point, the lower end of the section, and
+// a round step giving about MaxDefaultRows rows. The zero value of List
+// with all three NaN asks for DefaultStages.
+type StageSpec struct {
+	// List holds explicit stages (length unit), any order.
+	List []float64
+	// From, To and Step lay out a range (length unit).
+	From, To, Step float64
+}
+
+// ErrStageSpec is returned for a list given together with a range.
+var ErrStageSpec = errors.New("give a list of stages or a range, not both")
+
+// Stages returns the stages the spec asks for in geometry g: the list as
+// given, DefaultStages, or StageRange over the range with its defaults
+// filled. Errors wrap ErrStageSpec or ErrStages.
+func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
+	ranged := !math.IsNaN(s.From) || !math.IsNaN(s.To) || !math.IsNaN(s.Step)
+	if len(s.List) > 0 {
+		if ranged {
+			return nil, ErrStageSpec
+		}
+		for _, h := range s.List {
+			if !finiteAll(h) {
+				return nil, fmt.Errorf("%w: %v is not a finite stage", ErrStages, h)
+			}
+		}
+		return append([]float64(nil), s.List...), nil
+	}
+	if !ranged {
+		return DefaultStages(g), nil
+	}
+	from, to, step := s.From, s.To, s.Step
+	if math.IsNaN(from) {
+		from = g.Bottom()
+	}
+	if math.IsNaN(to) {
+		to = g.Top()
+	}
+	if math.IsNaN(step) {
+		step = NiceStep((to - from) / MaxDefaultRows)
+	}
+	return StageRange(from, to, step)
+}
+
+// DefaultStageSpec asks for the default stages (see StageSpec).
+func DefaultStageSpec() StageSpec {
+	return StageSpec{From: math.NaN(), To: math.NaN(), Step: math.NaN()}
+}

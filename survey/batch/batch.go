@@ -1,0 +1,379 @@
+// Package batch rates many surveyed sections at once: every survey file
+// of a folder, every survey sheet of a workbook, or a list of files. The
+// sections are rated on a pool of workers and their results come back in
+// input order; a section that fails is listed with its error and does not
+// stop the others.
+//
+// A batch writes either a folder (one table per section and an index,
+// replaced whole when the run succeeds: see output.Folder) or one long
+// table with a section column.
+package batch
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"sync"
+
+	"wetline/rating"
+	"wetline/survey"
+	"wetline/survey/output"
+	"wetline/survey/results"
+)
+
+// IndexFile is the name of the index table written into a batch folder;
+// it also marks a folder as an earlier batch output, safe to replace.
+const IndexFile = "index.csv"
+
+// Job is one survey of a batch: a CSV file or a workbook sheet.
+type Job struct {
+	// Path and Sheet say where the survey is (Sheet "" for a CSV file).
+	Path, Sheet string
+	// Name is the section's name, unique in the batch; Output the name of
+	// its table file in a batch folder.
+	Name, Output string
+	// Err is a problem found while listing the inputs (the job fails).
+	Err error
+}
+
+// Source names the job's survey: the file, and the sheet in brackets.
+func (j Job) Source() string {
+	if j.Sheet != "" {
+		return fmt.Sprintf("%s['%s']", j.Path, j.Sheet)
+	}
+	return j.Path
+}
+
+// ErrNoSurveys is returned for a folder without survey files.
+var ErrNoSurveys = errors.New("no survey files (.csv, .xlsx) in the folder")
+
+// List expands arguments into jobs in input order: a folder gives its CSV
+// files and workbooks in name order (hidden files skipped); a workbook
+// gives every sheet holding a survey (station and elevation columns), or
+// only the named sheet. It also returns every input file. Section names
+// are made unique and give the table file names, with extension ext.
+func List(args []string, sheet, ext string) ([]Job, []string, error) {
+	var files []string
+	for _, a := range args {
+		st, err := os.Stat(a)
+		if err != nil || !st.IsDir() {
+			files = append(files, a) // a missing file fails as its section
+			continue
+		}
+		found, err := surveyFiles(a)
+		if err != nil {
+			return nil, nil, err
+		}
+		files = append(files, found...)
+	}
+	var jobs []Job
+	for _, path := range files {
+		jobs = append(jobs, fileJobs(path, sheet)...)
+	}
+	uniqueNames(jobs, ext)
+	return jobs, files, nil
+}
+
+// surveyFiles lists the survey files of a folder in name order.
+func surveyFiles(dir string) ([]string, error) {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for _, en := range ents {
+		name := en.Name()
+		ext := strings.ToLower(filepath.Ext(name))
+		if en.IsDir() || strings.HasPrefix(name, ".") || (ext != ".csv" && !survey.IsWorkbook(name)) {
+			continue
+		}
+		out = append(out, filepath.Join(dir, name))
+	}
+	if len(out) == 0 {
+		return nil, fmt.Errorf("%s: %w", dir, ErrNoSurveys)
+	}
+	return out, nil
+}
+
+// fileJobs returns the jobs of one input file.
+func fileJobs(path, sheet string) []Job {
+	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
+	switch {
+	case !survey.IsWorkbook(path):
+		return []Job{{Path: path, Name: base}}
+	case sheet != "":
+		return []Job{{Path: path, Sheet: sheet, Name: sheet}}
+	}
+	sheets, err := survey.SectionSheets(path)
+	if err == nil && len(sheets) == 0 {
+		err = fmt.Errorf("%s: no sheet has a station and an elevation column", path)
+	}
+	if err != nil {
+		return []Job{{Path: path, Name: base, Err: err}}
+	}
+	jobs := make([]Job, len(sheets))
+	for i, s := range sheets {
+		jobs[i] = Job{Path: path, Sheet: s, Name: s}
+	}
+	return jobs
+}
+
+// uniqueNames gives every job a distinct section name and output file
+// name (case-insensitively, the index file's name kept free).
+func uniqueNames(jobs []Job, ext string) {
+	used := map[string]bool{strings.ToLower(IndexFile): true}
+	for i := range jobs {
+		stem := SafeFileName(jobs[i].Name)
+		out := stem + "." + ext
+		for k := 2; used[strings.ToLower(out)]; k++ {
+			out = fmt.Sprintf("%s-%d.%s", stem, k, ext)
+		}
+		used[strings.ToLower(out)] = true
+		jobs[i].Output = out
+		if s := strings.TrimSuffix(out, "."+ext); s != stem {
+			jobs[i].Name = fmt.Sprintf("%s (%s)", jobs[i].Name, s)
+		}
+	}
+}
+
+// SafeFileName keeps letters, digits, '.', '-' and '_' of a section name
+// (others become '_'), without leading or trailing dots.
+func SafeFileName(name string) string {
+	var b strings.Builder
+	for _, r := range name {
+		switch {
+		case r >= 'a' && r <= 'z', r >= 'A' && r <= 'Z', r >= '0' && r <= '9', r == '-', r == '_', r == '.':
+			b.WriteRune(r)
+		default:
+			b.WriteByte('_')
+		}
+	}
+	s := strings.Trim(b.String(), ".")
+	if s == "" {
+		s = "section"
+	}
+	return s
+}
+
+// Options configure a batch. Request and Rating are applied to every
+// section (Request's Path and Sheet come from each job).
+type Options struct {
+	// Request holds the overrides of every section (n, banks, units,
+	// composite roughness).
+	Request survey.SectionRequest
+	// Stages asks for the stages of every table.
+	Stages rating.StageSpec
+	// Rating holds the slope and wetting options (its Units is Request's).
+	Rating rating.Options
+	// Workers is the number of sections rated at once (default GOMAXPROCS).
+	Workers int
+	// Progress, when set, is called after each section with the count
+	// done, from the goroutine that called Run.
+	Progress func(done, total int)
+	// ReadOnly only reads and checks the surveys (for measuring).
+	ReadOnly bool
+}
+
+// Result is what rating one job gives.
+type Result struct {
+	// Entry is the job's line of the index.
+	Entry results.IndexEntry
+	// Table is the rating table (no rows when the job failed).
+	Table rating.Table
+}
+
+// Rate reads and rates one job.
+func Rate(j Job, opt Options) Result {
+	nan := math.NaN()
+	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
+		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
+	fail := func(err error) Result {
+		en.Err = strings.ReplaceAll(strings.TrimSpace(err.Error()), "\n", "; ")
+		return Result{Entry: en}
+	}
+	if j.Err != nil {
+		return fail(j.Err)
+	}
+	req := opt.Request
+	req.Path, req.Sheet = j.Path, j.Sheet
+	p, err := survey.Prepare(req)
+	if err != nil {
+		return fail(err)
+	}
+	if opt.ReadOnly {
+		return Result{Entry: en}
+	}
+	stages, err := opt.Stages.Stages(p.Geometry)
+	if err != nil {
+		return fail(err)
+	}
+	ro := opt.Rating
+	ro.Units = req.Units
+	t, err := rating.Compute(p.Geometry, stages, ro)
+	if err != nil {
+		return fail(err)
+	}
+	t.Name = j.Name
+	en.Rows, en.Warnings = len(t.Rows), append(append([]string(nil), p.Warnings...), t.Warnings...)
+	en.StageMin, en.StageMax, _ = t.StageRange()
+	if hb, ok := p.Ground.Section.Bankfull(); ok {
+		en.BankfullStage = hb
+		if bt, err := rating.Compute(p.Geometry, []float64{hb}, ro); err == nil && len(bt.Rows) == 1 {
+			en.BankfullDischarge = bt.Rows[0].Discharge
+		}
+	}
+	return Result{Entry: en, Table: t}
+}
+
+// Run rates the jobs on a pool of workers and calls emit for every job in
+// input order, from the calling goroutine. At most a few results per
+// worker wait to be emitted, so memory stays bounded however long the
+// batch. An error from emit, or the context ending, stops the batch.
+func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result) error) error {
+	workers := opt.Workers
+	if workers < 1 {
+		workers = runtime.GOMAXPROCS(0)
+	}
+	return orderedPool(ctx, len(jobs), workers, func(i int) Result { return Rate(jobs[i], opt) },
+		func(i int, r Result) error {
+			if err := emit(i, r); err != nil {
+				return err
+			}
+			if opt.Progress != nil {
+				opt.Progress(i+1, len(jobs))
+			}
+			return nil
+		})
+}
+
+// Summary is what a batch wrote.
+type Summary struct {
+	// Entries are the index lines, in input order.
+	Entries []results.IndexEntry
+	// Failed counts the sections that failed.
+	Failed int
+}
+
+// ErrFailed is the cause of a batch in which some sections failed.
+var ErrFailed = errors.New("sections failed")
+
+// Err returns nil when every section was rated, else an error saying how
+// many failed (wrapping ErrFailed).
+func (s Summary) Err(where string) error {
+	if s.Failed == 0 {
+		return nil
+	}
+	return fmt.Errorf("%d of %d %w (each is listed with its error %s)", s.Failed, len(s.Entries), ErrFailed, where)
+}
+
+// Folder rates the jobs into a batch folder at dir, staged in files (the
+// folder replaces an earlier one only when files is committed): one table
+// per section in format "csv" or "json", and the index. Only the index
+// and the tables of sections that were rated are written.
+func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
+	var sum Summary
+	d, err := files.Folder(dir, IndexFile)
+	if err != nil {
+		return sum, err
+	}
+	err = Run(ctx, jobs, opt, func(i int, r Result) error {
+		if r.Entry.Err == "" {
+			rep := rating.RatingReport{Table: r.Table, Warnings: r.Entry.Warnings}
+			if err := d.Write(jobs[i].Output, func(w io.Writer) error {
+				if format == "json" {
+					return results.WriteRatingJSON(w, rep)
+				}
+				return results.WriteRatingCSV(w, rep)
+			}); err != nil {
+				return err
+			}
+			r.Entry.Output = jobs[i].Output
+		} else {
+			sum.Failed++
+		}
+		sum.Entries = append(sum.Entries, r.Entry)
+		return nil
+	})
+	if err != nil {
+		return sum, err
+	}
+	return sum, d.Write(IndexFile, func(w io.Writer) error { return results.WriteIndexCSV(w, sum.Entries) })
+}
+
+// Long rates the jobs into one long CSV table written to w (see
+// results.LongRatingWriter). Sections that fail are left out.
+func Long(ctx context.Context, w io.Writer, jobs []Job, opt Options) (Summary, error) {
+	var sum Summary
+	long := results.NewLongRatingWriter(w)
+	err := Run(ctx, jobs, opt, func(i int, r Result) error {
+		sum.Entries = append(sum.Entries, r.Entry)
+		if r.Entry.Err != "" {
+			sum.Failed++
+			return nil
+		}
+		return long.Write(r.Entry.Section, r.Table)
+	})
+	if err != nil {
+		return sum, err
+	}
+	return sum, long.Flush()
+}
+
+// orderedPool runs do(i) for i in [0, n) on the given number of workers
+// and calls emit(i, result) for every i in increasing order, from the
+// calling goroutine. An error from emit, or the context ending, stops the
+// pool.
+func orderedPool[T any](ctx context.Context, n, workers int, do func(i int) T, emit func(i int, r T) error) error {
+	ctx, cancel := context.WithCancel(ctx)
+	defer cancel()
+	slots := make([]chan T, n)
+	for i := range slots {
+		slots[i] = make(chan T, 1)
+	}
+	ahead := make(chan struct{}, 4*workers)
+	jobs := make(chan int)
+	go func() {
+		defer close(jobs)
+		for i := 0; i < n; i++ {
+			select {
+			case ahead <- struct{}{}:
+			case <-ctx.Done():
+				return
+			}
+			select {
+			case jobs <- i:
+			case <-ctx.Done():
+				return
+			}
+		}
+	}()
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range jobs {
+				slots[i] <- do(i)
+			}
+		}()
+	}
+	var err error
+	for i := 0; i < n && err == nil; i++ {
+		select {
+		case r := <-slots[i]:
+			<-ahead
+			err = emit(i, r)
+		case <-ctx.Done():
+			err = ctx.Err()
+		}
+	}
+	cancel()
+	wg.Wait()
+	return err
+}

@@ -1,0 +1,203 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// ErrRequest is the cause of every error in what was asked of Prepare
+// (rather than in the data read): an n override of the wrong length, bank
+// stations for a built shape, a file and a shape at once. Commands report
+// it as a mistake on the command line.
+var ErrRequest = errors.New("invalid request")
+
+// SectionRequest says which section to prepare and how to adjust it. The
+// zero value of every override keeps the survey as read.
+type SectionRequest struct {
+	// Path and Sheet name the survey (Sheet "" is the first sheet of a
+	// workbook); Path is empty when Shape is given.
+	Path, Sheet string
+	// Shape is a built section's spec (see subdivide.ParseShape) instead
+	// of a survey file.
+	Shape string
+	// N, when given, replaces the survey's n: one value for the whole
+	// section, or three (left overbank, channel, right overbank), which
+	// need bank stations.
+	N []float64
+	// Banks, when given, are the two bank stations (left, right) bounding
+	// the main channel; they replace the survey's bank marks.
+	Banks []float64
+	// Composite is the composite-roughness method applied to the geometry.
+	Composite rating.Composite
+	// Units is the unit system of the survey.
+	Units rating.Units
+}
+
+// Prepared is a section ready for hydraulics.
+type Prepared struct {
+	// Geometry is the compiled section with the composite method applied.
+	Geometry subdivide.Geometry
+	// Ground is the section as read after the overrides, with each point's
+	// label and note (no points for a closed conduit).
+	Ground rating.Ground
+	// Survey is the survey as read (zero for a built shape).
+	Survey Survey
+	// Shape is the built shape (zero value when a survey was read).
+	Shape subdivide.Shape
+	// Built reports a built shape rather than a survey.
+	Built bool
+	// Inputs are the files read, never to be written over.
+	Inputs []string
+	// Warnings are facts about the section a reviewer should see.
+	Warnings []string
+}
+
+// Source names the prepared section for messages: its file (and sheet)
+// or its shape's spec.
+func (p *Prepared) Source() string { return p.Ground.Source }
+
+// Prepare reads the survey (or builds the shape) of req, applies the
+// overrides and compiles the geometry. Errors in the data are
+// *ParseError or name the survey file; errors in req wrap ErrRequest.
+func Prepare(req SectionRequest) (*Prepared, error) {
+	if req.Shape != "" || req.Path == "" {
+		return prepareShape(req)
+	}
+	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil})
+	if err != nil {
+		return nil, err
+	}
+	p := &Prepared{Survey: sv, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
+	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
+	sec := sv.Section
+	if req.Banks != nil {
+		if len(req.Banks) != 2 {
+			return nil, fmt.Errorf("%w: bank stations: want two, LEFT,RIGHT; got %d", ErrRequest, len(req.Banks))
+		}
+		sec.HasBanks, sec.LeftBank, sec.RightBank = true, req.Banks[0], req.Banks[1]
+	}
+	if req.N != nil {
+		n, err := regionN(req.N, sec.HasBanks, true)
+		if errors.Is(err, ErrNoBanksForN) {
+			return nil, fmt.Errorf("%s: %w", p.Ground.Source, err)
+		}
+		if err != nil {
+			return nil, err
+		}
+		sec.NByRegion = n
+		p.Warnings = append(p.Warnings, highN(req.N)...)
+	}
+	if sec.N == nil && req.N == nil {
+		return nil, fmt.Errorf("%s: %w", p.Ground.Source, ErrNoN)
+	}
+	g, err := subdivide.Compile(sec)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", p.Ground.Source, err)
+	}
+	p.Ground.Section = sec
+	p.Geometry = rating.CompositeGeometry(g, req.Composite)
+	return p, nil
+}
+
+// Causes of a survey that cannot take what was asked of it.
+var (
+	// ErrNoN: the survey has no n column and no n was given.
+	ErrNoN = errors.New("the survey has no n column: give Manning's n")
+	// ErrNoBanksForN: n by region was given for a survey without banks.
+	ErrNoBanksForN = errors.New("n by region (LEFT,CHANNEL,RIGHT) needs bank stations: mark two points bank or give them")
+)
+
+// Position names a file and sheet as messages do: field.xlsx['XS-2'], or
+// the path alone for a CSV file.
+func Position(path, sheet string) string {
+	if sheet == "" {
+		return path
+	}
+	return (&ParseError{File: path, Sheet: sheet}).Position()
+}
+
+// regionN turns one n (the whole section) or three (left, channel,
+// right) into n by region; three need banks unless the caller checks.
+func regionN(v []float64, hasBanks, needBanks bool) (subdivide.RegionN, error) {
+	for _, n := range v {
+		if !(n > 0) || math.IsInf(n, 0) {
+			return subdivide.RegionN{}, fmt.Errorf("%w: Manning's n %v: must be a positive number", ErrRequest, n)
+		}
+	}
+	switch len(v) {
+	case 1:
+		return subdivide.UniformN(v[0]), nil
+	case 3:
+		if needBanks && !hasBanks {
+			return subdivide.RegionN{}, ErrNoBanksForN
+		}
+		return subdivide.RegionN{Left: v[0], Channel: v[1], Right: v[2]}, nil
+	}
+	return subdivide.RegionN{}, fmt.Errorf("%w: Manning's n: want one value or three (LEFT,CHANNEL,RIGHT), got %d", ErrRequest, len(v))
+}
+
+// highN warns of given n values above HighN, as the survey reader does
+// for its n column.
+func highN(v []float64) []string {
+	var out []string
+	for _, n := range v {
+		if n > HighN {
+			out = append(out, fmt.Sprintf("Manning's n %g given is above %.2f: check it", n, HighN))
+		}
+	}
+	return out
+}
+
+// prepareShape builds the section of req.Shape.
+func prepareShape(req SectionRequest) (*Prepared, error) {
+	switch {
+	case req.Shape == "":
+		return nil, fmt.Errorf("%w: give a survey file or a built shape", ErrRequest)
+	case req.Path != "":
+		return nil, fmt.Errorf("%w: give a survey file or a built shape, not both", ErrRequest)
+	case req.Banks != nil:
+		return nil, fmt.Errorf("%w: bank stations do not apply to a built shape (a compound shape's banks are its channel's top corners)", ErrRequest)
+	case req.Sheet != "":
+		return nil, fmt.Errorf("%w: a sheet does not apply to a built shape", ErrRequest)
+	case req.N == nil:
+		return nil, fmt.Errorf("%w: a built shape needs Manning's n", ErrRequest)
+	}
+	sh, err := subdivide.ParseShape(req.Shape)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %w", ErrRequest, err)
+	}
+	n, err := ShapeN(sh, req.N)
+	if err != nil {
+		return nil, err
+	}
+	g, err := sh.Build(n)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %w", ErrRequest, err)
+	}
+	p := &Prepared{Shape: sh, Built: true, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
+	if !sh.Closed() {
+		if sec, err := sh.Section(n); err == nil {
+			p.Ground.Section = sec
+		}
+	} else {
+		p.Warnings = append(p.Warnings, fmt.Sprintf(
+			"closed conduit: at its crown (stage %g %s) it flows full: the wetted perimeter is the whole circumference, the top width is zero and the Froude number is undefined; a stage above the crown is an error",
+			g.Top(), req.Units.Length()))
+	}
+	p.Geometry = rating.CompositeGeometry(g, req.Composite)
+	return p, nil
+}
+
+// ShapeN turns a given n into n by region for a built shape: one value,
+// or LEFT,CHANNEL,RIGHT for a compound shape (whose floodplain key, when
+// given, takes precedence). Errors wrap ErrRequest.
+func ShapeN(sh subdivide.Shape, v []float64) (subdivide.RegionN, error) {
+	if len(v) == 3 && sh.Kind != subdivide.Compound {
+		return subdivide.RegionN{}, fmt.Errorf("%w: n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", ErrRequest, sh.Kind)
+	}
+	return regionN(v, true, false)
+}

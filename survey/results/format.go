@@ -1,0 +1,126 @@
+package results
+
+import (
+	"bufio"
+	"encoding/json"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+	"wetline/rating"
+	"wetline/survey/workbook"
+)
+
+// FormatFloat writes v with 6 significant digits, and "" for NaN or ±Inf
+// (an undefined value).
+func FormatFloat(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	if v == 0 {
+		return "0"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// LengthDecimals is the number of decimals written for stages, depths and
+// other lengths: 0.1 mm or 0.0001 ft, finer than any survey.
+const LengthDecimals = 4
+
+// FormatLength writes a length (stage, depth, width) with LengthDecimals
+// decimals, trailing zeros dropped, and "" when undefined.
+func FormatLength(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	if math.Abs(v) >= 1e12 {
+		return FormatFloat(v) // no survey is this large; keep the cell short
+	}
+	s := strconv.FormatFloat(v, 'f', LengthDecimals, 64)
+	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	if s == "-0" {
+		s = "0"
+	}
+	return s
+}
+
+func writeRecord(w *bufio.Writer, rec []string) {
+	for i, s := range rec {
+		if i > 0 {
+			w.WriteByte(',')
+		}
+		w.WriteString(s)
+	}
+	w.WriteByte('\n')
+}
+
+// Float is a float64 that encodes NaN and ±Inf as JSON null.
+type Float float64
+
+// MarshalJSON writes null for undefined values.
+func (f Float) MarshalJSON() ([]byte, error) {
+	v := float64(f)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return []byte("null"), nil
+	}
+	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
+}
+
+// UnitNames lists the unit of each quantity for a report header.
+func UnitNames(u rating.Units) map[string]string {
+	return map[string]string{
+		"system": u.String(), "length": u.Length(), "area": u.Area(),
+		"discharge": u.Discharge(), "velocity": u.Velocity(), "shear_stress": u.Stress(),
+	}
+}
+
+// writeJSON writes v as indented JSON.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// sig formats v to n significant figures, "-" when undefined.
+func sig(v float64, n int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.*g", n, v)
+}
+
+// fixed formats v with n decimals, "-" when undefined.
+func fixed(v float64, n int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "-"
+	}
+	return fmt.Sprintf("%.*f", n, v)
+}
+
+// nonNil returns s, or an empty list for nil (JSON [] rather than null).
+func nonNil(s []string) []string {
+	if s == nil {
+		return []string{}
+	}
+	return s
+}
+
+// programName states the program of a report, "wetline unknown" when the
+// report does not say.
+func programName(p rating.Provenance) string {
+	if p.Program == "" {
+		return "wetline unknown"
+	}
+	return p.Program
+}
+
+// pictures turns a report's figures into workbook pictures captioned by
+// what they show.
+func pictures(figs []rating.Figure) []workbook.Picture {
+	out := make([]workbook.Picture, len(figs))
+	for i, f := range figs {
+		out[i] = workbook.Picture{Name: f.Caption, PNG: f.PNG}
+	}
+	return out
+}

@@ -1,0 +1,255 @@
+package results
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+
+	"wetline/rating"
+)
+
+// solveNormal is one normal stage in the JSON of a solve report.
+type solveNormal struct {
+	Stage        Float   `json:"stage"`
+	Depth        Float   `json:"depth"`
+	Branch       string  `json:"branch"`
+	Discharge    Float   `json:"discharge"`
+	Area         Float   `json:"area"`
+	TopWidth     Float   `json:"top_width"`
+	MeanVelocity Float   `json:"mean_velocity"`
+	Froude       Float   `json:"froude"`
+	Regime       *string `json:"regime"`
+	Full         bool    `json:"full"`
+	Jump         bool    `json:"jump"`
+}
+
+// solveCritical is one critical stage in the JSON of a solve report.
+type solveCritical struct {
+	Stage          Float  `json:"stage"`
+	Depth          Float  `json:"depth"`
+	Alpha          Float  `json:"alpha"`
+	SpecificEnergy Float  `json:"specific_energy"`
+	Energy         string `json:"specific_energy_extremum"`
+	Jump           bool   `json:"jump"`
+}
+
+// solveDischargeJSON is the JSON of a solve report for a discharge. Its
+// leading keys are a contract: normal_stage, normal_depth,
+// critical_stages, froude, regime.
+type solveDischargeJSON struct {
+	NormalStage    Float             `json:"normal_stage"`
+	NormalDepth    Float             `json:"normal_depth"`
+	CriticalStages []Float           `json:"critical_stages"`
+	CriticalDepths []Float           `json:"critical_depths"`
+	Froude         Float             `json:"froude"`
+	Regime         *string           `json:"regime"`
+	Section        string            `json:"section"`
+	Units          map[string]string `json:"units"`
+	Discharge      Float             `json:"discharge"`
+	Slope          Float             `json:"slope"`
+	Composite      string            `json:"composite_roughness"`
+	NormalStages   []solveNormal     `json:"normal_stages"`
+	Critical       []solveCritical   `json:"critical"`
+	MinEnergyStage Float             `json:"min_specific_energy_stage"`
+	MinEnergy      Float             `json:"min_specific_energy"`
+	ClosedConduit  bool              `json:"closed_conduit"`
+	FullDischarge  Float             `json:"full_discharge"`
+	PeakDischarge  Float             `json:"peak_discharge"`
+	PeakStage      Float             `json:"peak_discharge_stage"`
+	Warnings       []string          `json:"warnings"`
+	Caution        string            `json:"caution"`
+}
+
+// solveAreaJSON is the JSON of a solve report for a flow area.
+type solveAreaJSON struct {
+	Section         string            `json:"section"`
+	Units           map[string]string `json:"units"`
+	Area            Float             `json:"area"`
+	Stage           Float             `json:"stage"`
+	Depth           Float             `json:"depth"`
+	TopWidth        Float             `json:"top_width"`
+	WettedPerimeter Float             `json:"wetted_perimeter"`
+	HydraulicRadius Float             `json:"hydraulic_radius"`
+	Full            bool              `json:"full"`
+	Warnings        []string          `json:"warnings"`
+	Caution         string            `json:"caution"`
+}
+
+// solveStageJSON is the JSON of a solve report for a stage.
+type solveStageJSON struct {
+	Section           string            `json:"section"`
+	Units             map[string]string `json:"units"`
+	Stage             Float             `json:"stage"`
+	CriticalDischarge Float             `json:"critical_discharge"`
+	Slope             Float             `json:"slope"`
+	UniformDischarge  Float             `json:"uniform_discharge"`
+	Warnings          []string          `json:"warnings"`
+	Caution           string            `json:"caution"`
+}
+
+// nullIfZero is a slope that was not given: null.
+func nullIfZero(v float64) Float {
+	if v == 0 {
+		return Float(math.NaN())
+	}
+	return Float(v)
+}
+
+// WriteSolveJSON writes a solve report as one JSON object, by what was
+// asked: for a discharge {"normal_stage","normal_depth","critical_stages",
+// "critical_depths","froude","regime","section","units",...,"warnings",
+// "caution"}; for a flow area {"section","units","area","stage","depth",
+// "top_width","wetted_perimeter","hydraulic_radius","full","warnings",
+// "caution"}; for a stage {"section","units","stage","critical_discharge",
+// "slope","uniform_discharge","warnings","caution"}. Keys come in that
+// order; undefined values are null.
+func WriteSolveJSON(w io.Writer, rep rating.SolveReport) error {
+	warnings := nonNil(rep.Warnings)
+	switch {
+	case rep.Area != nil:
+		a := rep.Area
+		return writeJSON(w, solveAreaJSON{Section: rep.Section, Units: UnitNames(rep.Units), Area: Float(a.Area),
+			Stage: Float(a.Root.Stage), Depth: Float(a.Root.Depth), TopWidth: Float(a.TopWidth),
+			WettedPerimeter: Float(a.WettedPerimeter), HydraulicRadius: Float(a.HydraulicRadius), Full: a.Full,
+			Warnings: warnings, Caution: rating.Caution})
+	case rep.Stage != nil:
+		a := rep.Stage
+		return writeJSON(w, solveStageJSON{Section: rep.Section, Units: UnitNames(rep.Units), Stage: Float(a.Stage),
+			CriticalDischarge: Float(a.CriticalDischarge), Slope: nullIfZero(rep.Slope), UniformDischarge: Float(a.UniformDischarge),
+			Warnings: warnings, Caution: rating.Caution})
+	case rep.Discharge != nil:
+		return writeJSON(w, solveDischarge(rep, warnings))
+	}
+	return rating.ErrQuery
+}
+
+// solveDischarge lays out the JSON of a solve report for a discharge.
+func solveDischarge(rep rating.SolveReport, warnings []string) solveDischargeJSON {
+	s := rep.Discharge
+	nan := Float(math.NaN())
+	out := solveDischargeJSON{
+		NormalStage: nan, NormalDepth: nan, Froude: nan,
+		CriticalStages: []Float{}, CriticalDepths: []Float{},
+		Section: rep.Section, Units: UnitNames(s.Units), Discharge: Float(s.Discharge),
+		Slope: nullIfZero(s.Slope), Composite: rep.Composite.String(),
+		NormalStages: []solveNormal{}, Critical: []solveCritical{},
+		MinEnergyStage: Float(s.MinEnergy.Stage), MinEnergy: Float(s.MinEnergy.Energy),
+		ClosedConduit: s.Closed, FullDischarge: Float(s.FullDischarge),
+		PeakDischarge: Float(s.PeakDischarge), PeakStage: Float(s.PeakStage),
+		Warnings: warnings, Caution: rating.Caution,
+	}
+	for i, n := range s.Normal {
+		var regime *string
+		if n.Regime != "" {
+			r := n.Regime
+			regime = &r
+		}
+		out.NormalStages = append(out.NormalStages, solveNormal{
+			Stage: Float(n.Stage), Depth: Float(n.Depth), Branch: n.Branch(),
+			Discharge: Float(n.Row.Discharge), Area: Float(n.Row.Area), TopWidth: Float(n.Row.TopWidth),
+			MeanVelocity: Float(n.Row.MeanVelocity), Froude: Float(n.Row.Froude), Regime: regime, Full: n.Row.Full,
+			Jump: n.Jump,
+		})
+		if i == 0 {
+			out.NormalStage, out.NormalDepth, out.Froude, out.Regime = Float(n.Stage), Float(n.Depth), Float(n.Row.Froude), regime
+		}
+	}
+	for _, c := range s.Critical {
+		out.CriticalStages = append(out.CriticalStages, Float(c.Stage))
+		out.CriticalDepths = append(out.CriticalDepths, Float(c.Depth))
+		out.Critical = append(out.Critical, solveCritical{
+			Stage: Float(c.Stage), Depth: Float(c.Depth), Alpha: Float(c.Alpha),
+			SpecificEnergy: Float(c.Energy), Energy: energyExtremum(c), Jump: c.Jump,
+		})
+	}
+	return out
+}
+
+// energyExtremum says whether specific energy has a minimum or a maximum
+// at a critical stage: a minimum where the Froude number falls through 1.
+func energyExtremum(c rating.CriticalRoot) string {
+	if c.Rising {
+		return "minimum"
+	}
+	return "maximum"
+}
+
+// WriteSolveText writes a solve report for a reader: the stages found,
+// the hydraulics there, the warnings and the caution.
+func WriteSolveText(w io.Writer, rep rating.SolveReport) error {
+	bw := bufio.NewWriter(w)
+	u := rep.Units
+	switch {
+	case rep.Area != nil:
+		a := rep.Area
+		fmt.Fprintf(bw, "section %s (%s units)\n", rep.Section, u)
+		fmt.Fprintf(bw, "flow area %g %s is held at stage %.4f %s (depth %.4f %s): top width %.4g %s, wetted perimeter %.4g %s\n",
+			a.Area, u.Area(), a.Root.Stage, u.Length(), a.Root.Depth, u.Length(),
+			a.TopWidth, u.Length(), a.WettedPerimeter, u.Length())
+	case rep.Stage != nil:
+		a := rep.Stage
+		fmt.Fprintf(bw, "section %s (%s units)\n", rep.Section, u)
+		fmt.Fprintf(bw, "at stage %g %s the critical discharge is %.4g %s\n", a.Stage, u.Length(), a.CriticalDischarge, u.Discharge())
+		if rep.Slope > 0 {
+			fmt.Fprintf(bw, "uniform flow at slope %g carries %.4g %s\n", rep.Slope, a.UniformDischarge, u.Discharge())
+		}
+	case rep.Discharge != nil:
+		writeSolution(bw, rep)
+	default:
+		return rating.ErrQuery
+	}
+	return endSummary(bw, rep.Warnings)
+}
+
+// writeSolution prints the stages of a discharge.
+func writeSolution(w *bufio.Writer, rep rating.SolveReport) {
+	s := rep.Discharge
+	u := s.Units
+	L := u.Length()
+	fmt.Fprintf(w, "section %s (%s units), discharge %g %s, roughness %s\n", rep.Section, u, s.Discharge, u.Discharge(), compositeWords(rep.Composite))
+	if s.Slope > 0 {
+		for _, n := range s.Normal {
+			if n.Jump {
+				fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g: discharge drops past %g %s here as level ground is wetted all at once\n",
+					n.Stage, L, n.Depth, L, s.Slope, s.Discharge, u.Discharge())
+				continue
+			}
+			fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g, %s branch: area %.4g %s, mean velocity %.4g %s, ",
+				n.Stage, L, n.Depth, L, s.Slope, n.Branch(), n.Row.Area, u.Area(), n.Row.MeanVelocity, u.Velocity())
+			if n.Row.Full {
+				fmt.Fprintln(w, "flowing full (wetted perimeter the whole circumference, top width zero, no Froude number)")
+			} else {
+				fmt.Fprintf(w, "Froude number %.3f, %s\n", n.Row.Froude, n.Regime)
+			}
+		}
+	} else {
+		fmt.Fprintln(w, "normal stage: give --slope to compute it")
+	}
+	for _, c := range s.Critical {
+		jump := ""
+		if c.Jump {
+			jump = "; the Froude number jumps through 1 here as level ground is wetted all at once"
+		}
+		fmt.Fprintf(w, "critical stage %.4f %s (depth %.4f %s): alpha %.3f, specific energy %.4f %s (a %s%s)\n",
+			c.Stage, L, c.Depth, L, c.Alpha, c.Energy, L, energyExtremum(c), jump)
+	}
+	fmt.Fprintf(w, "least specific energy %.4f %s at stage %.4f %s\n", s.MinEnergy.Energy, L, s.MinEnergy.Stage, L)
+	if s.Closed && s.Slope > 0 {
+		fmt.Fprintf(w, "conduit at slope %g: %.4g %s flowing just full; at most %.4g %s part full, at stage %.4f %s (%.3f of the height)\n",
+			s.Slope, s.FullDischarge, u.Discharge(), s.PeakDischarge, u.Discharge(), s.PeakStage, L, (s.PeakStage-s.Bottom)/(s.Top-s.Bottom))
+	}
+}
+
+// compositeWords says how roughness was handled.
+func compositeWords(c rating.Composite) string {
+	switch c {
+	case rating.HortonEinstein:
+		return "composite by region (Horton-Einstein, equal velocity)"
+	case rating.Pavlovskii:
+		return "composite by region (Pavlovskii, total force)"
+	case rating.Lotter:
+		return "composite by region (Lotter, sum of conveyances)"
+	}
+	return "split at every n change"
+}

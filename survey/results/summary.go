@@ -1,0 +1,131 @@
+package results
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/rating/reach"
+)
+
+// The summaries are what a command says on the console after writing its
+// report to a file: what was written, the few numbers a user checks
+// first, the warnings and the caution. Each returns the first write error.
+
+// WriteWarnings writes each warning on a line of its own, "warning: ...".
+func WriteWarnings(w io.Writer, warnings []string) error {
+	bw := bufio.NewWriter(w)
+	for _, s := range warnings {
+		fmt.Fprintln(bw, "warning: "+s)
+	}
+	return bw.Flush()
+}
+
+// WriteCaution writes the caution line.
+func WriteCaution(w io.Writer) error {
+	_, err := fmt.Fprintln(w, "caution: "+rating.Caution)
+	return err
+}
+
+// endSummary writes the warnings and the caution after a summary.
+func endSummary(w *bufio.Writer, warnings []string) error {
+	for _, s := range warnings {
+		fmt.Fprintln(w, "warning: "+s)
+	}
+	fmt.Fprintln(w, "caution: "+rating.Caution)
+	return w.Flush()
+}
+
+// WriteRatingSummary says that a rating report was written to path: its
+// stages, discharges, slope and units.
+func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error {
+	bw := bufio.NewWriter(w)
+	t := rep.Table
+	u := t.Units
+	fmt.Fprintf(bw, "wrote %s: %d stage(s)", path, len(t.Rows))
+	if lo, hi, ok := t.Extremes(); ok {
+		fmt.Fprintf(bw, " from %.3f to %.3f %s, discharge %s to %s %s",
+			lo.Stage, hi.Stage, u.Length(), sig(lo.Discharge, 3), sig(hi.Discharge, 3), u.Discharge())
+	}
+	fmt.Fprintf(bw, " (slope %g, %s units)\n", t.Slope, u)
+	return endSummary(bw, rep.Warnings)
+}
+
+// WriteFitSummary says that a gaugings report was written to path: the
+// datum, the fit, the comparison and the calibration.
+func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
+	if r.Comparison != nil {
+		fmt.Fprintf(bw, "; gauge datum: elevation = gauge height + %s %s", FormatFloat(r.Datum), r.Units.Length())
+	} else {
+		fmt.Fprint(bw, "; stages are gauge heights as read (no section)")
+	}
+	fmt.Fprintln(bw)
+	if f := r.Fit; f != nil {
+		fmt.Fprintf(bw, "  %d segment(s), e = %.3f %s (%s), standard error %.1f %%\n",
+			len(f.Segments), f.ZeroFlow, r.Units.Length(), f.ZeroFlowSource, f.StandardErrorPercent)
+	}
+	if c := r.Comparison; c != nil {
+		fmt.Fprintf(bw, "  against the hydraulic rating: %d of %d outside their quality bands\n", c.Outside, len(c.Residuals))
+	}
+	if c := r.Calibration; c != nil {
+		fmt.Fprintf(bw, "  best factor on n: %.3f\n", c.Factor)
+	}
+	if t := r.Table; t != nil && t.ScaleNote != "" {
+		fmt.Fprintf(bw, "  %s\n", t.ScaleNote)
+	}
+	return endSummary(bw, r.Warnings)
+}
+
+// WriteSlopeAreaSummary says that a slope-area report was written to
+// path: the peak, its band and how many checks warn.
+func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
+	bw := bufio.NewWriter(w)
+	r := rep.Result
+	fmt.Fprintf(bw, "wrote %s: %s peak discharge %s %s", path, r.Method, sig(r.Discharge, 3), r.Units.Discharge())
+	if u := rep.Uncertainty; u != nil {
+		fmt.Fprintf(bw, " (90 %% band %s to %s %s)", sig(u.P05, 3), sig(u.P95, 3), r.Units.Discharge())
+	}
+	warn := 0
+	for _, c := range r.Checks {
+		if !c.Pass {
+			warn++
+		}
+	}
+	fmt.Fprintf(bw, ", %d of %d checks warn\n", warn, len(r.Checks))
+	return endSummary(bw, rep.Warnings)
+}
+
+// MaxListed bounds how many failed sections a batch summary lists.
+const MaxListed = 20
+
+// WriteBatchSummary says where a batch was written and lists the
+// sections that failed (at most MaxListed).
+func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string) error {
+	bw := bufio.NewWriter(w)
+	failed := 0
+	for _, en := range entries {
+		if en.Err != "" {
+			failed++
+		}
+	}
+	fmt.Fprintf(bw, "rated %d of %d sections into %s\n", len(entries)-failed, len(entries), where)
+	shown := 0
+	for _, en := range entries {
+		if en.Err != "" && shown < MaxListed {
+			fmt.Fprintf(bw, "failed: %s: %s\n", en.Section, en.Err)
+			shown++
+		}
+	}
+	return endSummary(bw, nil)
+}
+
+// WriteWrote says that a file was written, with the caution.
+func WriteWrote(w io.Writer, path string, warnings []string) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "wrote %s\n", path)
+	return endSummary(bw, warnings)
+}
