@@ -225,7 +225,9 @@ func (d *demo) workbook() error {
 	}
 	const fieldName, resultsName = "tallow-field.xlsx", "tallow-xs1-results.xlsx"
 	if err := d.put(fieldName, "field workbook: the survey on sheet "+sv.Section.Name+", blank sheets, reach, gaugings",
-		func(w io.Writer) error { return survey.WriteTemplate(w, survey.TemplateOptions{Surveys: []survey.Survey{sv}}) }); err != nil {
+		func(w io.Writer) error {
+			return survey.WriteTemplate(w, survey.TemplateOptions{Surveys: []survey.Survey{sv}})
+		}); err != nil {
 		return err
 	}
 	if err := d.e.files.Commit(); err != nil {

@@ -68,4 +68,3 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: warnings,
 		write: func(io.Writer) error { return nil }})
 }
-

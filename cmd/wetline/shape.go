@@ -63,4 +63,3 @@ func runShape(ctx context.Context, e *env, args []string) error {
 			return err
 		}})
 }
-
