@@ -290,7 +290,7 @@ func TestErrors(t *testing.T) {
 }
 
 // TestRatingReference draws the published Patuxent River rating with the
-// agency's own measurements (../shared/reference, USGS 01594440, public
+// agency's own measurements (testdata/reference, USGS 01594440, public
 // domain) in US units with the published gauge height of zero flow of
 // 2.0 ft. The reference README states the measurements span gauge
 // heights 3.5–21.1 ft, all above 2.0 ft: none may be left out.

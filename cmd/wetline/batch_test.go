@@ -73,6 +73,7 @@ func batchInputs(t *testing.T, names ...string) string {
 // order with bankfull discharge, a bad section listed with its error, and
 // exit status 1 with a summary.
 func TestBatchFolder(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "a1", "b2", "bad", "c3")
 	out := filepath.Join(t.TempDir(), "ratings")
 	var stdout, stderr bytes.Buffer
@@ -129,6 +130,7 @@ func TestBatchFolder(t *testing.T) {
 // TestBatchLong writes one long table with a section column, rows of each
 // section together and sections in input order, for files given one by one.
 func TestBatchLong(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "z9", "a1")
 	var stdout, stderr bytes.Buffer
 	e := newEnv(&stdout, &stderr, commandTable())
@@ -157,6 +159,7 @@ func TestBatchLong(t *testing.T) {
 
 // TestBatchWorkbookSheets rates every survey sheet of a workbook.
 func TestBatchWorkbookSheets(t *testing.T) {
+	t.Parallel()
 	f := excelize.NewFile()
 	f.SetSheetName("Sheet1", "XS-1")
 	f.NewSheet("remarks")
@@ -192,6 +195,7 @@ func TestBatchWorkbookSheets(t *testing.T) {
 
 // TestBatchProgress shows a progress line on a terminal.
 func TestBatchProgress(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "a", "b", "c")
 	for _, tty := range []bool{true, false} {
 		var stdout, stderr bytes.Buffer
@@ -207,6 +211,7 @@ func TestBatchProgress(t *testing.T) {
 
 // TestBatchUsage checks the command-line errors of batch mode.
 func TestBatchUsage(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "a", "b")
 	tests := []struct {
 		args []string
@@ -231,6 +236,7 @@ func TestBatchUsage(t *testing.T) {
 // (which it would replace whole) is refused before anything is written,
 // and the folder is left as it was.
 func TestBatchRefusesInputs(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "a", "b")
 	before, _ := os.ReadFile(filepath.Join(in, "a.csv"))
 	var out bytes.Buffer
@@ -257,11 +263,8 @@ func TestBatchRefusesInputs(t *testing.T) {
 // TestDemoBatch runs the demo and checks its batch step: the reach's three
 // sections rated without error, with bankfull discharges.
 func TestDemoBatch(t *testing.T) {
-	dir := t.TempDir()
-	var out bytes.Buffer
-	if err := runArgs(t, newEnv(&out, &out, commandTable()), "demo", "-o", dir); err != nil {
-		t.Fatal(err, out.String())
-	}
+	t.Parallel()
+	dir, _ := demoOutput(t)
 	idx := readCSV(t, filepath.Join(dir, "tallow-reach-ratings", "index.csv"))
 	if len(idx) != 1+len(demoGaugeReach) {
 		t.Fatalf("index %v", idx)
@@ -276,6 +279,7 @@ func TestDemoBatch(t *testing.T) {
 // TestBatchMissingFile lists a survey that cannot be opened as a failed
 // section; the others are still rated.
 func TestBatchMissingFile(t *testing.T) {
+	t.Parallel()
 	in := batchInputs(t, "a")
 	var stdout, stderr bytes.Buffer
 	err := runArgs(t, newEnv(&stdout, &stderr, commandTable()), "rate", filepath.Join(in, "a.csv"), filepath.Join(in, "gone.csv"),

@@ -113,7 +113,7 @@ func summary(t *testing.T, f *excelize.File) map[string]string {
 }
 
 // relClose: values written to a workbook keep 15 significant digits
-// (excelize writes floats so; see ../shared/LIBRARY-NOTES.md), so a cell
+// (excelize writes floats with 15 significant digits), so a cell
 // read back is within this relative distance of the value written.
 const relClose = 1e-13
 
@@ -155,6 +155,7 @@ type fitReport struct {
 // residuals, the fitted table with extrapolated rows marked, and the
 // lookup sheet whose every cell is the table's rule at that stage.
 func TestFitResultsWorkbook(t *testing.T) {
+	t.Parallel()
 	args := []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}
 	out, _, err := fitRun(t, append(args, "--format", "json")...)
 	if err != nil {
@@ -343,6 +344,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 // workbook has no fitted table or lookup sheet, but the gaugings against
 // the hydraulic rating.
 func TestFitWorkbookComparisonOnly(t *testing.T) {
+	t.Parallel()
 	path := filepath.Join(t.TempDir(), "compare.xlsx")
 	if _, errs, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--compare-only", "-o", path); err != nil {
 		t.Fatalf("%v: %s", err, errs)
@@ -361,6 +363,7 @@ func TestFitWorkbookComparisonOnly(t *testing.T) {
 
 // TestFitWorkbookErrors: xlsx needs -o; bad gaugings write no workbook.
 func TestFitWorkbookErrors(t *testing.T) {
+	t.Parallel()
 	var ue usageError
 	if _, _, err := fitRun(t, "fit", fitDemoGaugings, "--format", "xlsx"); !errors.As(err, &ue) {
 		t.Errorf("xlsx without -o: %v, want a usage error", err)
@@ -411,6 +414,7 @@ type saReport struct {
 // summary, the inputs, sections, subreaches, checks and uncertainty with
 // the report's numbers, and both figures.
 func TestSlopeAreaResultsWorkbook(t *testing.T) {
+	t.Parallel()
 	args := []string{"slopearea", "demodata/reach-brindle.csv", "--draws", "300", "--seed", "7"}
 	out, errs, code := runCLI(t, append(args, "--format", "json")...)
 	if code != 0 {
@@ -522,6 +526,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 // TestSlopeAreaWorkbookErrors: xlsx needs -o; a bad reach writes no
 // workbook.
 func TestSlopeAreaWorkbookErrors(t *testing.T) {
+	t.Parallel()
 	if _, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--format", "xlsx"); code != 2 || !strings.Contains(errs, "-o FILE.xlsx") {
 		t.Errorf("xlsx without -o: exit %d %s", code, errs)
 	}
@@ -546,11 +551,8 @@ func TestSlopeAreaWorkbookErrors(t *testing.T) {
 // TestDemoWritesResultsWorkbooks: the demo writes the fit and slope-area
 // workbooks, each with its figures.
 func TestDemoWritesResultsWorkbooks(t *testing.T) {
-	dir := t.TempDir()
-	out, errs, code := runCLI(t, "demo", "-o", dir)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	t.Parallel()
+	dir, out := demoOutput(t)
 	for _, tc := range []struct {
 		name, sheet string
 		pictures    int

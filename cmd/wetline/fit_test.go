@@ -31,6 +31,7 @@ const (
 )
 
 func TestFitGolden(t *testing.T) {
+	t.Parallel()
 	for _, tc := range []struct {
 		name string
 		args []string
@@ -57,6 +58,7 @@ func TestFitGolden(t *testing.T) {
 // shift; table rows with stage, discharge and extrapolated; the datum and
 // the caution.
 func TestFitJSONContract(t *testing.T) {
+	t.Parallel()
 	out, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--format", "json")
 	if err != nil {
 		t.Fatal(err)
@@ -90,6 +92,7 @@ func TestFitJSONContract(t *testing.T) {
 // Bad gaugings: one clear error naming file, row and column; no output
 // file is written.
 func TestFitBadGaugingsWritesNothing(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	for _, tc := range []struct {
 		name, csv string
@@ -125,6 +128,7 @@ func TestFitBadGaugingsWritesNothing(t *testing.T) {
 }
 
 func TestFitUsageErrors(t *testing.T) {
+	t.Parallel()
 	for _, args := range [][]string{
 		{"fit"},
 		{"fit", fitDemoGaugings, "--slope", "0.001"},
@@ -149,6 +153,7 @@ func TestFitUsageErrors(t *testing.T) {
 // Refusing to extrapolate past the section's lower end (104.8 m, gauge
 // height 4.8 m) or above the gaugings without a section.
 func TestFitRefusesPastSection(t *testing.T) {
+	t.Parallel()
 	_, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "5")
 	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
 		t.Errorf("past the section: err = %v", err)
@@ -161,6 +166,7 @@ func TestFitRefusesPastSection(t *testing.T) {
 
 // rate --calibrate scales n by the best factor and says so in the report.
 func TestRateCalibrate(t *testing.T) {
+	t.Parallel()
 	out, _, err := fitRun(t, "rate", fitDemoSurvey, "--slope", "0.0012", "--calibrate", fitDemoGaugings, "--datum", "100", "--format", "json")
 	if err != nil {
 		t.Fatal(err)
@@ -186,11 +192,8 @@ func TestRateCalibrate(t *testing.T) {
 }
 
 func TestDemoWritesFit(t *testing.T) {
-	dir := t.TempDir()
-	out, _, err := fitRun(t, "demo", "-o", dir)
-	if err != nil {
-		t.Fatal(err)
-	}
+	t.Parallel()
+	dir, out := demoOutput(t)
 	for _, name := range []string{"tallow-gaugings.csv", "tallow-fit.txt", "tallow-fit.json", "tallow-fit-table.csv"} {
 		if !strings.Contains(out, name) {
 			t.Errorf("demo output does not list %s", name)
@@ -205,6 +208,7 @@ func TestDemoWritesFit(t *testing.T) {
 // spreadsheet's own date cells (serial 45000.5 is 2023-03-15 12:00 in the
 // 1900 date system, excelize.ExcelDateToTime).
 func TestFitWorkbookGaugings(t *testing.T) {
+	t.Parallel()
 	f := excelize.NewFile()
 	defer f.Close()
 	if _, err := f.NewSheet("gaugings"); err != nil {
@@ -259,13 +263,11 @@ func TestFitWorkbookGaugings(t *testing.T) {
 // TestFitPlots checks that fit --plots writes the rating figure with the
 // gaugings as a PNG of the default size.
 func TestFitPlots(t *testing.T) {
-	dir := t.TempDir()
-	if _, errs, code := runCLI(t, "demo", "-o", dir); code != 0 {
-		t.Fatal(errs)
-	}
-	plots := filepath.Join(dir, "figs")
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	plots := filepath.Join(t.TempDir(), "figs")
 	_, errs, code := runCLI(t, "fit", filepath.Join(dir, demoGaugings), "--section", filepath.Join(dir, demoSurvey),
-		"--slope", "0.0012", "--datum", "100", "--plots", plots, "-o", filepath.Join(dir, "fit.json"))
+		"--slope", "0.0012", "--datum", "100", "--plots", plots, "-o", filepath.Join(t.TempDir(), "fit.json"))
 	if code != 0 {
 		t.Fatal(errs)
 	}

@@ -31,13 +31,18 @@ func TestMain(m *testing.M) {
 		}}
 		os.Exit(mainWith(cmds))
 	}
-	os.Exit(m.Run())
+	code := m.Run()
+	if demoOnce.dir != "" {
+		os.RemoveAll(demoOnce.dir)
+	}
+	os.Exit(code)
 }
 
 // TestInterruptLeavesNoPartialFile sends SIGINT to the running program
 // while it writes: it exits with status 130, leaves no temporary file, and
 // an existing output keeps its content.
 func TestInterruptLeavesNoPartialFile(t *testing.T) {
+	t.Parallel()
 	for _, existing := range []string{"", "old content\n"} {
 		dir := t.TempDir()
 		out := filepath.Join(dir, "rating.csv")

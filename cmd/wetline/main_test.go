@@ -5,10 +5,12 @@ import (
 	"context"
 	"encoding/json"
 	"flag"
+	"fmt"
 	"io"
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -49,6 +51,7 @@ func golden(t *testing.T, name, got string) {
 const demoSurveyPath = "../../testdata/tallow-xs1.csv"
 
 func TestRateGolden(t *testing.T) {
+	t.Parallel()
 	for _, c := range []struct {
 		name string
 		args []string
@@ -71,6 +74,7 @@ func TestRateGolden(t *testing.T) {
 
 // TestDemoSurveyInSync keeps the testdata copy equal to the embedded demo.
 func TestDemoSurveyInSync(t *testing.T) {
+	t.Parallel()
 	a, _ := os.ReadFile(demoSurveyPath)
 	b, _ := demoFiles.ReadFile("demodata/" + demoSurvey)
 	if !bytes.Equal(a, b) {
@@ -79,6 +83,7 @@ func TestDemoSurveyInSync(t *testing.T) {
 }
 
 func TestRateJSONUndefinedIsNull(t *testing.T) {
+	t.Parallel()
 	out, _, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "--format", "json", "--stages", "100.3")
 	if code != 0 {
 		t.Fatal(code)
@@ -96,6 +101,7 @@ func TestRateJSONUndefinedIsNull(t *testing.T) {
 }
 
 func TestRateWritesFileWithSummary(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	outPath := filepath.Join(dir, "r.json")
 	_, errs, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "-o", outPath)
@@ -114,6 +120,7 @@ func TestRateWritesFileWithSummary(t *testing.T) {
 // TestBadInputs checks each bad input gives one clear line naming file, row
 // and column, the right exit status, and no output file.
 func TestBadInputs(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	write := func(name, body string) string {
 		p := filepath.Join(dir, name)
@@ -165,6 +172,7 @@ func TestBadInputs(t *testing.T) {
 }
 
 func TestRefusesToOverwriteInput(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	in := filepath.Join(dir, "xs.csv")
 	data, _ := os.ReadFile(demoSurveyPath)
@@ -184,15 +192,12 @@ func TestRefusesToOverwriteInput(t *testing.T) {
 }
 
 func TestHelpAndDemo(t *testing.T) {
+	t.Parallel()
 	out, _, code := runCLI(t, "rate", "--help")
 	if code != 0 || !strings.Contains(out, "--slope") {
 		t.Errorf("help: exit %d, %q", code, out)
 	}
-	dir := t.TempDir()
-	out, errs, code := runCLI(t, "demo", "-o", dir)
-	if code != 0 {
-		t.Fatalf("demo: exit %d: %s", code, errs)
-	}
+	dir, out := demoOutput(t)
 	if !strings.Contains(out, "caution") {
 		t.Errorf("demo output lacks the caution: %s", out)
 	}
@@ -209,4 +214,34 @@ func ttyEnv(stdout, stderr io.Writer, tty bool) *env {
 	e := newEnv(stdout, stderr, commandTable())
 	e.stderrTTY, e.progressDelay, e.progressEvery = tty, 0, 0
 	return e
+}
+
+// The demo is written once per test binary, into a folder removed when
+// the tests end; tests read it and write their own outputs elsewhere.
+var demoOnce struct {
+	sync.Once
+	dir, stdout string
+	err         error
+}
+
+// demoOutput returns the folder the demo was written into and what it
+// printed.
+func demoOutput(t *testing.T) (dir, stdout string) {
+	t.Helper()
+	demoOnce.Do(func() {
+		demoOnce.dir, demoOnce.err = os.MkdirTemp("", "wetline-demo-test-")
+		if demoOnce.err != nil {
+			return
+		}
+		var errs string
+		var code int
+		demoOnce.stdout, errs, code = runCLI(t, "demo", "-o", demoOnce.dir)
+		if code != 0 {
+			demoOnce.err = fmt.Errorf("demo: exit %d: %s", code, errs)
+		}
+	})
+	if demoOnce.err != nil {
+		t.Fatal(demoOnce.err)
+	}
+	return demoOnce.dir, demoOnce.stdout
 }

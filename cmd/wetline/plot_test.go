@@ -45,6 +45,7 @@ func decodeAll(t *testing.T, dir string, names []string, w, h int) {
 var figureNames = []string{"tallow-xs1-properties.png", "tallow-xs1-rating.png", "tallow-xs1-section.png"}
 
 func TestRatePlots(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	plots := filepath.Join(dir, "figs")
 	var stdout, stderr bytes.Buffer
@@ -60,6 +61,7 @@ func TestRatePlots(t *testing.T) {
 }
 
 func TestPlotRedraw(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	var stdout, stderr bytes.Buffer
 	e := newEnv(&stdout, &stderr, commandTable())
@@ -92,6 +94,7 @@ func TestPlotRedraw(t *testing.T) {
 }
 
 func TestPlotErrors(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	bad := filepath.Join(dir, "bad.csv")
 	if err := os.WriteFile(bad, []byte("stage,discharge\n1,2\n2,lots\n"), 0o644); err != nil {

@@ -16,6 +16,7 @@ import (
 )
 
 func TestSlopeAreaTextGolden(t *testing.T) {
+	t.Parallel()
 	out, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -30,6 +31,7 @@ func TestSlopeAreaTextGolden(t *testing.T) {
 
 // The JSON form holds at least the fields of the published contract.
 func TestSlopeAreaJSONContract(t *testing.T) {
+	t.Parallel()
 	out, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "500")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -72,6 +74,7 @@ func TestSlopeAreaJSONContract(t *testing.T) {
 // Bad reach data ends with one clear error, exit status 1 (2 for flags),
 // and writes nothing.
 func TestSlopeAreaBadReach(t *testing.T) {
+	t.Parallel()
 	survey := "station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"
 	high := "station,elevation,n\n0,15,0.04\n10,13,0.04\n20,15,\n"
 	const head = "section,survey,distance,ws_left,ws_right\n"
@@ -123,6 +126,7 @@ func TestSlopeAreaBadReach(t *testing.T) {
 // One section with a slope gives the slope-conveyance estimate Q = K·√S,
 // labelled as weaker.
 func TestSlopeAreaOneSectionSlope(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,\n"), 0o644)
 	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
@@ -141,6 +145,7 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 }
 
 func TestSlopeAreaOutputFile(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	out := filepath.Join(dir, "report.json")
 	_, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "-o", out, "--draws", "200")
@@ -164,11 +169,8 @@ func TestSlopeAreaOutputFile(t *testing.T) {
 }
 
 func TestDemoWritesSlopeArea(t *testing.T) {
-	dir := t.TempDir()
-	out, errs, code := runCLI(t, "demo", "-o", dir)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	t.Parallel()
+	dir, out := demoOutput(t)
 	if !strings.Contains(out, "reach-brindle-slopearea.txt") {
 		t.Errorf("demo output lacks the report:\n%s", out)
 	}
@@ -193,12 +195,10 @@ func TestDemoWritesSlopeArea(t *testing.T) {
 // TestSlopeAreaPlots checks that --plots writes both reach figures as PNGs
 // of the default size, and that a bad reach writes no figure.
 func TestSlopeAreaPlots(t *testing.T) {
-	dir := t.TempDir()
-	if _, errs, code := runCLI(t, "demo", "-o", dir); code != 0 {
-		t.Fatal(errs)
-	}
-	plots := filepath.Join(dir, "figs")
-	_, errs, code := runCLI(t, "slopearea", filepath.Join(dir, demoReach), "--plots", plots, "--draws", "200", "-o", filepath.Join(dir, "r.txt"))
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	plots := filepath.Join(t.TempDir(), "figs")
+	_, errs, code := runCLI(t, "slopearea", filepath.Join(dir, demoReach), "--plots", plots, "--draws", "200", "-o", filepath.Join(t.TempDir(), "r.txt"))
 	if code != 0 {
 		t.Fatal(errs)
 	}

@@ -10,6 +10,7 @@ import (
 )
 
 func TestSolveGolden(t *testing.T) {
+	t.Parallel()
 	tests := []struct {
 		name string
 		args []string
@@ -31,6 +32,7 @@ func TestSolveGolden(t *testing.T) {
 
 // TestSolveJSONContract checks the keys promised to scripts.
 func TestSolveJSONContract(t *testing.T) {
+	t.Parallel()
 	out, errs, code := runCLI(t, "solve", "--shape", "trapezoid:bottom=3,side=2", "--n", "0.025", "--slope", "0.0008", "--discharge", "12", "--format", "json")
 	if code != 0 {
 		t.Fatal(errs)
@@ -53,6 +55,7 @@ func TestSolveJSONContract(t *testing.T) {
 }
 
 func TestShapeUsageErrors(t *testing.T) {
+	t.Parallel()
 	tests := []struct {
 		args []string
 		want string // in stderr
@@ -111,6 +114,7 @@ func sameCSVNumbers(a, b string) bool {
 // TestShapeSurveyRoundTrip: a shape written as a survey CSV rates as the
 // shape itself at the default stages.
 func TestShapeSurveyRoundTrip(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	for _, spec := range []string{"trapezoid:bottom=3,left=1.5,right=2,invert=101.25", "compound:bottom=2,side=1,depth=1.5,floodplain=20,outer=3", "rectangle:width=2.5", "triangle:side=0.75"} {
 		path := filepath.Join(dir, "built.csv")

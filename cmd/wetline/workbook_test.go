@@ -28,6 +28,7 @@ func runWB(t *testing.T, args ...string) (stdout, stderr string, err error) {
 }
 
 func TestTemplateCommand(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	out := filepath.Join(dir, "field.xlsx")
 	_, stderr, err := runWB(t, "template", "-o", out, "--sections", "2", "--units", "us")
@@ -112,6 +113,7 @@ func fillFromCSV(t *testing.T, path, sheet, csvPath string) {
 // TestFilledTemplateRoundTrip: template → filled by the test → rate gives
 // the same table as rating the equivalent CSV, as CSV and as a workbook.
 func TestFilledTemplateRoundTrip(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	field := filepath.Join(dir, "field.xlsx")
 	if _, _, err := runWB(t, "template", "-o", field); err != nil {
@@ -189,6 +191,7 @@ func wbSheetRows(t *testing.T, path, sheet string) [][]string {
 // TestRateWorkbookErrors: a bad cell in a field workbook is named by
 // sheet and cell; xlsx output needs a file; output is atomic.
 func TestRateWorkbookErrors(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	field := filepath.Join(dir, "field.xlsx")
 	if _, _, err := runWB(t, "template", "-o", field); err != nil {
@@ -229,6 +232,7 @@ func TestRateWorkbookErrors(t *testing.T) {
 // TestRateWorkbookNoLookup: a stage range too long for a lookup sheet
 // leaves the sheet out with a warning.
 func TestRateWorkbookNoLookup(t *testing.T) {
+	t.Parallel()
 	out := filepath.Join(t.TempDir(), "results.xlsx")
 	_, stderr, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "--stages", "100.3,101,3000", "-o", out)
 	if err != nil {
@@ -248,6 +252,7 @@ func TestRateWorkbookNoLookup(t *testing.T) {
 }
 
 func TestRateWorkbookSummary(t *testing.T) {
+	t.Parallel()
 	out := filepath.Join(t.TempDir(), "results.xlsx")
 	_, stderr, err := runWB(t, "rate", wbTallowCSV, "--slope", "0.0012", "--n", "0.05,0.035,0.07", "-o", out)
 	if err != nil {
@@ -277,11 +282,8 @@ func TestRateWorkbookSummary(t *testing.T) {
 }
 
 func TestDemoWritesWorkbook(t *testing.T) {
-	dir := t.TempDir()
-	stdout, _, err := runWB(t, "demo", "-o", dir)
-	if err != nil {
-		t.Fatal(err)
-	}
+	t.Parallel()
+	dir, stdout := demoOutput(t)
 	if !strings.Contains(stdout, "tallow-xs1-results.xlsx") {
 		t.Errorf("demo output %q", stdout)
 	}
