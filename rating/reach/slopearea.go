@@ -101,6 +101,14 @@ type Section struct {
 	// MarkSD is the standard deviation of one mark's elevation (length
 	// unit) used by MonteCarlo; zero means MonteCarloOptions.MarkSD.
 	MarkSD float64
+	// FlowLengths are the lengths of the flow paths to the next section
+	// downstream (length unit), indexed by subdivide.Region (channel, left
+	// overbank, right overbank), for the step-backwater method, which
+	// weights them by conveyance (WeightedLength). All zero means the
+	// distance to the next section for every path; a zero entry beside
+	// others means that distance for its path. Unused at the last section
+	// and by the slope-area method.
+	FlowLengths [3]float64
 }
 
 // SlopeAreaOptions configure a slope-area computation. The zero value is
