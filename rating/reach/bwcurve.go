@@ -1,8 +1,11 @@
 package reach
 
 import (
+	"errors"
 	"math"
 	"sort"
+
+	"wetline/subdivide"
 
 	"wetline/rating"
 )
@@ -44,6 +47,9 @@ type bwCurve struct {
 	// spans split the knots into monotonic runs: knots[from..to] never
 	// fall (rising) or never rise; consecutive spans share a knot.
 	spans []bwSpan
+	// refused is the geometry's error at the first stage it refused
+	// (Options.NoExtend above an end): the curve ends before it.
+	refused error
 }
 
 // bwSpan is a monotonic run of knots.
@@ -69,12 +75,16 @@ func newBWCurve(m *bwModel, fn func(*bwState) float64) (*bwCurve, error) {
 			hi, steps = lo+m.span, CurveTopSamples
 		}
 		start := len(c.knots)
-		for i := 0; i <= steps; i++ {
+		for i := 0; i <= steps && c.refused == nil; i++ {
 			h := lo + (hi-lo)*float64(i)/float64(steps)
 			if i == steps {
 				h = hi
 			}
 			v, err := c.value(j, h, &st)
+			if errors.Is(err, subdivide.ErrAboveEnds) {
+				c.refused = err
+				break
+			}
 			if err != nil {
 				return nil, err
 			}
@@ -82,6 +92,9 @@ func newBWCurve(m *bwModel, fn func(*bwState) float64) (*bwCurve, error) {
 		}
 		if err := c.refineTurns(start); err != nil {
 			return nil, err
+		}
+		if c.refused != nil {
+			break
 		}
 	}
 	c.findSpans()
@@ -188,6 +201,9 @@ func (c *bwCurve) crossings(y float64, out []bwCrossing) ([]bwCrossing, error) {
 		out = append(out, bwCrossing{h: h, rising: b.v > a.v})
 	}
 	last := ks[len(ks)-1]
+	if last.v < y && c.refused != nil {
+		return out, c.refused
+	}
 	if last.v < y {
 		lo, vlo := last.h, last.v
 		step := last.h - c.m.bottom
@@ -210,7 +226,7 @@ func (c *bwCurve) crossings(y float64, out []bwCrossing) ([]bwCrossing, error) {
 			}
 			lo, vlo, step = hi, v, 2*step
 		}
-		return out, errNotClosed
+		return out, errNoCrossing
 	}
 	return out, nil
 }

@@ -353,8 +353,9 @@ func (m *bwModel) stateIn(j int, h float64, st *bwState) error {
 	return nil
 }
 
-// errNotClosed is returned internally when a curve has no crossing.
-var errNotClosed = errors.New("no crossing")
+// errNoCrossing is returned when a growing curve does not reach a level
+// within MaxCurveDoublings.
+var errNoCrossing = errors.New("the quantity does not reach the level at any stage searched")
 
 // isClosed reports whether g is a closed conduit: full at its top.
 func isClosed(g subdivide.Geometry, opt subdivide.Options) (bool, error) {
