@@ -239,8 +239,9 @@ type RatingRead struct {
 // subcritical and the equation has one (a compound section can have
 // several critical stages, and so several bands). Where no such root
 // exists the flow passes through critical depth: the stage is the critical
-// stage nearest to balancing the equation, and the section is marked
-// Critical.
+// stage at which the upstream energy exceeds the downstream energy and
+// losses the least (never one that falls short of them), and the section
+// is marked Critical.
 //
 // Every discharge is computed twice: from the boundary's stage and from a
 // second start (opt.Second; by default critical depth, or 1.3 times the

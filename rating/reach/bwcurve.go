@@ -263,9 +263,14 @@ func (m *bwModel) conveyanceCurve() (*bwCurve, error) {
 // rounding.
 const BackwaterStageTolerance = 1e-12
 
+// minDepthScale is the least depth (length unit) by which relative
+// stage tolerances and steps are scaled, so that they stay positive at a
+// section's lowest point.
+const minDepthScale = 1e-6
+
 // bwStageTol is the absolute stage tolerance at depth d.
 func bwStageTol(d float64) float64 {
-	return BackwaterStageTolerance * math.Max(d, 1e-6)
+	return BackwaterStageTolerance * math.Max(d, minDepthScale)
 }
 
 // brentRoot finds a zero of f between a and b, where fa = f(a) and

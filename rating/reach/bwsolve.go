@@ -321,7 +321,12 @@ func (r *bwRun) march(k int, h float64, critical bool, q float64) ([]bwRow, erro
 	n := len(r.secs)
 	rows := r.rows[k]
 	last := &rows[n-1]
-	if err := r.models[n-1].state(h, &last.st); err != nil {
+	m := r.models[n-1]
+	band := m.band(h)
+	if critical {
+		band = bandAbove(m, h) // as finishRow reports a critical stage
+	}
+	if err := m.stateIn(band, h, &last.st); err != nil {
 		return nil, &SectionError{Index: n - 1, ID: r.secs[n-1].ID, Field: "geometry", Err: err}
 	}
 	last.critical = critical
@@ -421,8 +426,10 @@ func (r *bwRun) solveUp(k, j int, q float64, row, dn *bwRow) error {
 			return r.finishRow(m, e, h, band, false, row)
 		}
 	}
-	// No subcritical root: critical depth, the critical stage nearest to
-	// balancing the equation.
+	// No subcritical root: the flow passes through critical depth. Of the
+	// critical stages at which the upstream energy covers the energy and
+	// losses downstream (residual ≥ 0; the highest always does, or its
+	// band would hold a root), the one with the least excess.
 	best, bestF := math.NaN(), math.Inf(1)
 	for _, c := range cr {
 		if !c.rising {
@@ -432,7 +439,7 @@ func (r *bwRun) solveUp(k, j int, q float64, row, dn *bwRow) error {
 		if err != nil {
 			return err
 		}
-		if math.IsNaN(best) || f < bestF {
+		if f >= 0 && f < bestF {
 			best, bestF = c.h, f
 		}
 	}
@@ -527,7 +534,7 @@ const WarmStep = 0.01
 func (r *bwRun) guess(k, j int, hd, lo float64) (guess, step float64) {
 	m, md := r.models[j], r.models[j+1]
 	depth := math.Max(hd-md.bottom, 0)
-	step = math.Max(WarmStep*depth, bwStageTol(depth)*1e3)
+	step = WarmStep * math.Max(depth, minDepthScale)
 	prev, prevD := r.warm[k][j], r.warm[k][j+1]
 	if finite(prev) && finite(prevD) {
 		guess = prev + (hd - prevD)
