@@ -595,3 +595,45 @@ func TestBackwaterNoExtend(t *testing.T) {
 		}
 	}
 }
+
+// The second boundary can be given; the warnings name a channel flow
+// length that differs from the sections' distances and stages above the
+// ends of a section; every boundary kind describes itself.
+func TestBackwaterOptions(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=2.5", [3]float64{0.035, 0.035, 0.035}, 4, 200, 0.001)
+	secs[1].FlowLengths = [3]float64{subdivide.Channel: 260}
+	last := secs[3].Geometry.Bottom()
+	second := Boundary{Kind: KnownStage, Stage: last + 2.2}
+	res, err := ComputeBackwater(secs, []float64{5, 80}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{Second: &second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range res.Profiles {
+		if p.SecondStart != second.Stage || p.SecondCritical || p.Sections[3].SecondWaterSurface != second.Stage {
+			t.Errorf("Q %g: second start %g, want %g", p.Discharge, p.SecondStart, second.Stage)
+		}
+	}
+	if res.SecondBoundary != second.String() || res.Expansion != ExpandingEddyK || res.Contraction != ContractingEddyK {
+		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
+	}
+	all := strings.Join(res.Warnings, "\n")
+	for _, want := range []string{"channel flow length 260.0 m", "above an end of the section"} {
+		if !strings.Contains(all, want) {
+			t.Errorf("no warning with %q in %q", want, res.Warnings)
+		}
+	}
+	for _, tc := range []struct {
+		b    Boundary
+		want string
+	}{
+		{Boundary{Kind: NormalDepth, Slope: 0.002}, "normal depth at slope 0.002"},
+		{Boundary{Kind: CriticalDepth}, "critical depth"},
+		{Boundary{Kind: KnownStage, Stage: 101.5}, "stage 101.5"},
+		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 1}, {101, 9}}}, "stage-discharge rating of 2 points, 1 to 9"},
+		{Boundary{Kind: StageRating, StageOf: func(float64) (float64, error) { return 0, nil }}, "stage-discharge rating (function)"},
+	} {
+		if got := tc.b.String(); got != tc.want {
+			t.Errorf("%v: %q, want %q", tc.b.Kind, got, tc.want)
+		}
+	}
+}
