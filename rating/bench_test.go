@@ -14,7 +14,7 @@ import (
 // to both ends, a levee and a back-swamp pocket, a gently undulating ground.
 func benchValley(n int) subdivide.Section {
 	s := subdivide.Section{Name: "valley", HasBanks: true, LeftBank: 485, RightBank: 515,
-		NByRegion: subdivide.RegionN{Channel: 0.035, Left: 0.06, Right: 0.07}}
+		NByRegion: subdivide.PerRegion{Channel: 0.035, Left: 0.06, Right: 0.07}}
 	for i := 0; i < n; i++ {
 		x := 1000 * float64(i) / float64(n-1)
 		z := 103 + 0.004*math.Abs(x-500)

@@ -36,7 +36,7 @@ func ExampleSolve() {
 		fmt.Println(err)
 		return
 	}
-	g, _ := shape.Build(subdivide.RegionN{Channel: 0.013})
+	g, _ := shape.Build(subdivide.PerRegion{Channel: 0.013})
 	sol, err := rating.Solve(g, 0.25, rating.Options{Slope: 0.005})
 	if err != nil {
 		fmt.Println(err)
@@ -53,7 +53,7 @@ func ExampleSolve() {
 
 func ExampleStageForArea() {
 	shape, _ := subdivide.ParseShape("trapezoid:bottom=3,side=2")
-	g, _ := shape.Build(subdivide.RegionN{Channel: 0.025})
+	g, _ := shape.Build(subdivide.PerRegion{Channel: 0.025})
 	r, _ := rating.StageForArea(g, 10, rating.Options{})
 	// (3 + 2y)·y = 10 gives y = 1.6085 m.
 	fmt.Printf("%.4f m\n", r.Depth)

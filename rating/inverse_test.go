@@ -15,7 +15,7 @@ func mustShape(t testing.TB, spec string, n float64) subdivide.Geometry {
 	if err != nil {
 		t.Fatal(err)
 	}
-	g, err := s.Build(subdivide.UniformN(n))
+	g, err := s.Build(subdivide.Uniform(n))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -269,16 +269,16 @@ func randomSection(rng *rand.Rand, i int) (subdivide.Geometry, string) {
 	switch i % 5 {
 	case 0:
 		s := subdivide.Shape{Kind: subdivide.Trapezoid, Bottom: 0.2 + 30*rng.Float64(), Left: 4 * rng.Float64(), Right: 4 * rng.Float64(), Invert: 50 * rng.Float64()}
-		g, _ := s.Build(subdivide.RegionN{Channel: n})
+		g, _ := s.Build(subdivide.PerRegion{Channel: n})
 		return g, s.String()
 	case 1:
 		s := subdivide.Shape{Kind: subdivide.Circle, Diameter: 0.1 + 4*rng.Float64(), Invert: 10 * rng.Float64()}
-		g, _ := s.Build(subdivide.RegionN{Channel: n})
+		g, _ := s.Build(subdivide.PerRegion{Channel: n})
 		return g, s.String()
 	case 2:
 		s := subdivide.Shape{Kind: subdivide.Compound, Bottom: 0.5 + 10*rng.Float64(), Left: 2 * rng.Float64(), Right: 2 * rng.Float64(),
 			Depth: 0.3 + 3*rng.Float64(), Floodplain: 1 + 80*rng.Float64(), Outer: 5 * rng.Float64(), FloodN: 0.03 + 0.1*rng.Float64()}
-		g, _ := s.Build(subdivide.UniformN(n))
+		g, _ := s.Build(subdivide.Uniform(n))
 		return g, s.String()
 	}
 	m := 3 + rng.IntN(15)

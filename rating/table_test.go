@@ -65,7 +65,7 @@ func randomProfile(rng *rand.Rand) subdivide.Section {
 	}
 	s.Points[len(s.Points)-1].Station += 1
 	s.HasBanks, s.LeftBank, s.RightBank = true, x*0.3, x*0.7
-	s.NByRegion = subdivide.RegionN{Channel: 0.06, Left: 0.035, Right: []float64{0, 0.07}[rng.IntN(2)]}
+	s.NByRegion = subdivide.PerRegion{Channel: 0.06, Left: 0.035, Right: []float64{0, 0.07}[rng.IntN(2)]}
 	return s
 }
 

@@ -12,7 +12,7 @@ func ExampleParseShape() {
 		fmt.Println(err)
 		return
 	}
-	g, _ := s.Build(subdivide.RegionN{Channel: 0.025})
+	g, _ := s.Build(subdivide.PerRegion{Channel: 0.025})
 	w, _ := g.At(102.2, subdivide.Options{})
 	// One metre deep: A = (3 + 2·1)·1 = 5 m², T = 3 + 2·2·1 = 7 m.
 	fmt.Printf("%s: area %.3f m2, top width %.3f m\n", s, w.Area, w.TopWidth)

@@ -30,7 +30,7 @@ func FuzzParseShape(f *testing.F) {
 		if err != nil || again != s {
 			t.Fatalf("ParseShape(%q): String %q reads back as %+v, %v", spec, s.String(), again, err)
 		}
-		g, err := s.Build(RegionN{Channel: 0.03, Left: 0.05, Right: 0.05})
+		g, err := s.Build(PerRegion{Channel: 0.03, Left: 0.05, Right: 0.05})
 		if err != nil {
 			// Dimensions so extreme that the ground line overflows.
 			return

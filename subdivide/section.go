@@ -48,32 +48,41 @@ type Section struct {
 	N []float64
 	// NByRegion, where a region's value is > 0, replaces N for every
 	// segment in that region.
-	NByRegion RegionN
+	NByRegion PerRegion
 	// HasBanks says whether LeftBank and RightBank hold the stations of the
 	// main-channel limits. Both must lie within the section, LeftBank < RightBank.
 	HasBanks            bool
 	LeftBank, RightBank float64
 }
 
-// RegionN holds a Manning's n for each region of a section: the left
-// overbank, the main channel and the right overbank. A zero value means
-// no n is given for that region. A section without banks is all channel.
-type RegionN struct {
+// PerRegion holds one value for each region of a section: the left
+// overbank, the main channel and the right overbank (a Manning's n, a
+// flow length, ...). A zero value means none is given for that region. A
+// section without banks is all channel.
+type PerRegion struct {
 	Left, Channel, Right float64
 }
 
-// UniformN returns n for every region.
-func UniformN(n float64) RegionN { return RegionN{Left: n, Channel: n, Right: n} }
+// Uniform returns v for every region.
+func Uniform(v float64) PerRegion { return PerRegion{Left: v, Channel: v, Right: v} }
 
-// Of returns the n of region r.
-func (n RegionN) Of(r Region) float64 {
+// Of returns the value of region r.
+func (p PerRegion) Of(r Region) float64 {
 	switch r {
 	case LeftOverbank:
-		return n.Left
+		return p.Left
 	case RightOverbank:
-		return n.Right
+		return p.Right
 	}
-	return n.Channel
+	return p.Channel
+}
+
+// Array returns the values indexed by Region (Channel, LeftOverbank,
+// RightOverbank), for loops over the regions.
+func (p PerRegion) Array() [3]float64 {
+	var a [3]float64
+	a[Channel], a[LeftOverbank], a[RightOverbank] = p.Channel, p.Left, p.Right
+	return a
 }
 
 // Subsection describes one part of a section between vertical dividers:

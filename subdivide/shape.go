@@ -373,7 +373,7 @@ func (s Shape) NominalHeight() float64 {
 // shape, the bank stations at the main channel's top corners. An n of 0
 // leaves N nil. Stations start at 0 at the top of the left side. A circle
 // has no ground-line form (its top is closed): ErrShapeKind.
-func (s Shape) Section(n RegionN) (Section, error) {
+func (s Shape) Section(n PerRegion) (Section, error) {
 	if err := s.Validate(); err != nil {
 		return Section{}, err
 	}
@@ -386,7 +386,7 @@ func (s Shape) Section(n RegionN) (Section, error) {
 // sectionAt builds the ground line with sides reaching height h above the
 // invert. The bottom-left corner keeps the station it has at the nominal
 // height, so stations of the inner points never depend on h.
-func (s Shape) sectionAt(h float64, n RegionN) Section {
+func (s Shape) sectionAt(h float64, n PerRegion) Section {
 	h0 := s.NominalHeight()
 	nc, nl, nr := n.Channel, n.Left, n.Right
 	if s.FloodN > 0 {
@@ -441,7 +441,7 @@ func (s Shape) sectionAt(h float64, n RegionN) Section {
 // Build returns the exact geometry of a shape with Manning's n by region
 // (n.Channel for a shape without floodplains). A circle is a *Conduit;
 // an open shape is a *Prism.
-func (s Shape) Build(n RegionN) (Geometry, error) {
+func (s Shape) Build(n PerRegion) (Geometry, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -461,7 +461,7 @@ func (s Shape) Build(n RegionN) (Geometry, error) {
 // straight, so every stage is exact. Safe for concurrent use.
 type Prism struct {
 	shape   Shape
-	n       RegionN
+	n       PerRegion
 	nominal *Profile
 }
 

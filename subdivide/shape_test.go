@@ -113,7 +113,7 @@ func TestPrismClosedForm(t *testing.T) {
 		}
 		inv := 100 * (rng.Float64() - 0.5)
 		s := Shape{Kind: kind, Bottom: b, Left: zl, Right: zr, Invert: inv}
-		g, err := s.Build(RegionN{Channel: 0.03})
+		g, err := s.Build(PerRegion{Channel: 0.03})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -145,7 +145,7 @@ func TestPrismHeight(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	g, _ := s.Build(RegionN{Channel: 0.02})
+	g, _ := s.Build(PerRegion{Channel: 0.02})
 	if g.Top() != 1 {
 		t.Errorf("top %g, want 1", g.Top())
 	}
@@ -168,14 +168,14 @@ func TestCompoundShape(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sec, err := s.Section(RegionN{Channel: 0.035})
+	sec, err := s.Section(PerRegion{Channel: 0.035})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !sec.HasBanks || sec.RightBank-sec.LeftBank != 2+2*1.5 {
 		t.Errorf("banks %v %g %g, want 5 apart", sec.HasBanks, sec.LeftBank, sec.RightBank)
 	}
-	g, _ := s.Build(RegionN{Channel: 0.035})
+	g, _ := s.Build(PerRegion{Channel: 0.035})
 	subs := g.Subsections()
 	if len(subs) != 3 || subs[0].N != 0.06 || subs[1].N != 0.035 || subs[2].N != 0.06 {
 		t.Fatalf("subsections %+v", subs)
@@ -209,7 +209,7 @@ func TestCompoundShape(t *testing.T) {
 
 func TestCircleHasNoSection(t *testing.T) {
 	s, _ := ParseShape("circle:diameter=1")
-	if _, err := s.Section(RegionN{Channel: 0.013}); !errors.Is(err, ErrShapeKind) {
+	if _, err := s.Section(PerRegion{Channel: 0.013}); !errors.Is(err, ErrShapeKind) {
 		t.Errorf("circle Section: %v", err)
 	}
 }

@@ -12,7 +12,7 @@ import (
 func ExampleProfile_Sweep() {
 	p, err := subdivide.Compile(subdivide.Section{
 		Points:    []subdivide.Point{{Station: 0, Elevation: 12}, {Station: 10, Elevation: 2}, {Station: 20, Elevation: 12}},
-		NByRegion: subdivide.RegionN{Channel: 0.035},
+		NByRegion: subdivide.PerRegion{Channel: 0.035},
 	})
 	if err != nil {
 		fmt.Println(err)

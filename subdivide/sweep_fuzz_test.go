@@ -23,7 +23,7 @@ func fuzzSection(data []byte, flags uint8) subdivide.Section {
 		}
 		s.Points = append(s.Points, subdivide.Point{Station: x, Elevation: 100 + float64(data[i+1])*0.125})
 	}
-	s.NByRegion = subdivide.RegionN{Channel: 0.05, Left: 0.035, Right: 0.06}
+	s.NByRegion = subdivide.PerRegion{Channel: 0.05, Left: 0.035, Right: 0.06}
 	if flags&4 != 0 && len(s.Points) > 1 && x > 0 {
 		s.HasBanks, s.LeftBank, s.RightBank = true, x*float64(flags>>4)/40, x*(1-float64(flags>>6)/10)
 	}
@@ -32,7 +32,7 @@ func fuzzSection(data []byte, flags uint8) subdivide.Section {
 		for i := range s.N {
 			s.N[i] = 0.03 + 0.01*float64(data[2*i]%3)
 		}
-		s.NByRegion = subdivide.RegionN{}
+		s.NByRegion = subdivide.PerRegion{}
 	}
 	return s
 }

@@ -62,7 +62,7 @@ func randomSection(rng *rand.Rand, n int) subdivide.Section {
 			s.N[i] = cur
 		}
 	} else {
-		s.NByRegion = subdivide.UniformN(0.035)
+		s.NByRegion = subdivide.Uniform(0.035)
 	}
 	if rng.IntN(2) == 0 {
 		lo, hi := s.Points[0].Station, last.Station
@@ -241,15 +241,15 @@ func TestSweepCases(t *testing.T) {
 		s      subdivide.Section
 		stages []float64
 	}{
-		{"vee", subdivide.Section{Points: pts(0, 2, 1, 0, 2, 2), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{-1, 0, 0.5, 2, 3}},
-		{"vertical walls", subdivide.Section{Points: pts(0, 3, 0, 0, 4, 0, 4, 3), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{0, 1, 3, 4}},
-		{"flat floor at stage", subdivide.Section{Points: pts(0, 3, 1, 1, 5, 1, 6, 3), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{1, 1, 1.5, 1}},
+		{"vee", subdivide.Section{Points: pts(0, 2, 1, 0, 2, 2), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{-1, 0, 0.5, 2, 3}},
+		{"vertical walls", subdivide.Section{Points: pts(0, 3, 0, 0, 4, 0, 4, 3), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{0, 1, 3, 4}},
+		{"flat floor at stage", subdivide.Section{Points: pts(0, 3, 1, 1, 5, 1, 6, 3), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{1, 1, 1.5, 1}},
 		{"pocket behind levee", subdivide.Section{Points: pts(0, 1, 2, 0.2, 4, 2, 6, 0, 8, 3),
 			N: []float64{0.06, 0.06, 0.035, 0.035}, HasBanks: true, LeftBank: 4, RightBank: 8},
 			[]float64{0.1, 0.2, 0.5, 1, 1.5, 2, 2.5, 3, 3.5}},
-		{"channel at right end", subdivide.Section{Points: pts(0, 2, 1, 1, 2, 0), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{0.5, 1, 1.5, 2.5}},
-		{"channel at left end", subdivide.Section{Points: pts(0, 0, 1, 1, 2, 0.5, 3, 2), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{0.5, 1, 1.5, 2.5}},
-		{"one segment", subdivide.Section{Points: pts(0, 0, 1, 1), NByRegion: subdivide.RegionN{Channel: 0.03}}, []float64{0.5, 2}},
+		{"channel at right end", subdivide.Section{Points: pts(0, 2, 1, 1, 2, 0), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{0.5, 1, 1.5, 2.5}},
+		{"channel at left end", subdivide.Section{Points: pts(0, 0, 1, 1, 2, 0.5, 3, 2), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{0.5, 1, 1.5, 2.5}},
+		{"one segment", subdivide.Section{Points: pts(0, 0, 1, 1), NByRegion: subdivide.PerRegion{Channel: 0.03}}, []float64{0.5, 2}},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -266,7 +266,7 @@ func TestSweepCases(t *testing.T) {
 func TestSweepVee(t *testing.T) {
 	p, err := subdivide.Compile(subdivide.Section{
 		Points:    []subdivide.Point{{Station: 0, Elevation: 10}, {Station: 10, Elevation: 0}, {Station: 20, Elevation: 10}},
-		NByRegion: subdivide.RegionN{Channel: 0.03},
+		NByRegion: subdivide.PerRegion{Channel: 0.03},
 	})
 	if err != nil {
 		t.Fatal(err)

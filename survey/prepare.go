@@ -122,22 +122,22 @@ func Position(path, sheet string) string {
 
 // regionN turns one n (the whole section) or three (left, channel,
 // right) into n by region; three need banks unless the caller checks.
-func regionN(v []float64, hasBanks, needBanks bool) (subdivide.RegionN, error) {
+func regionN(v []float64, hasBanks, needBanks bool) (subdivide.PerRegion, error) {
 	for _, n := range v {
 		if !(n > 0) || math.IsInf(n, 0) {
-			return subdivide.RegionN{}, fmt.Errorf("%w: Manning's n %v: must be a positive number", ErrRequest, n)
+			return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n %v: must be a positive number", ErrRequest, n)
 		}
 	}
 	switch len(v) {
 	case 1:
-		return subdivide.UniformN(v[0]), nil
+		return subdivide.Uniform(v[0]), nil
 	case 3:
 		if needBanks && !hasBanks {
-			return subdivide.RegionN{}, ErrNoBanksForN
+			return subdivide.PerRegion{}, ErrNoBanksForN
 		}
-		return subdivide.RegionN{Left: v[0], Channel: v[1], Right: v[2]}, nil
+		return subdivide.PerRegion{Left: v[0], Channel: v[1], Right: v[2]}, nil
 	}
-	return subdivide.RegionN{}, fmt.Errorf("%w: Manning's n: want one value or three (LEFT,CHANNEL,RIGHT), got %d", ErrRequest, len(v))
+	return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n: want one value or three (LEFT,CHANNEL,RIGHT), got %d", ErrRequest, len(v))
 }
 
 // highN warns of given n values above HighN, as the survey reader does
@@ -195,9 +195,9 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 // ShapeN turns a given n into n by region for a built shape: one value,
 // or LEFT,CHANNEL,RIGHT for a compound shape (whose floodplain key, when
 // given, takes precedence). Errors wrap ErrRequest.
-func ShapeN(sh subdivide.Shape, v []float64) (subdivide.RegionN, error) {
+func ShapeN(sh subdivide.Shape, v []float64) (subdivide.PerRegion, error) {
 	if len(v) == 3 && sh.Kind != subdivide.Compound {
-		return subdivide.RegionN{}, fmt.Errorf("%w: n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", ErrRequest, sh.Kind)
+		return subdivide.PerRegion{}, fmt.Errorf("%w: n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", ErrRequest, sh.Kind)
 	}
 	return regionN(v, true, false)
 }

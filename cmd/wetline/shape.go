@@ -41,7 +41,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	if sh.Closed() {
 		return usagef("shape %q: a closed conduit has no open ground line to write as a survey; use it directly with --shape", fs.Arg(0))
 	}
-	var nv subdivide.RegionN
+	var nv subdivide.PerRegion
 	if len(n) > 0 {
 		if nv, err = survey.ShapeN(sh, n); errors.Is(err, survey.ErrRequest) {
 			return usageError{err}

@@ -1,7 +1,9 @@
 // Package reach computes the hydraulics of a river reach described by
 // several surveyed cross-sections: the slope-area estimate of a flood peak
 // from high-water marks, with its site checks and a Monte Carlo analysis of
-// its uncertainty.
+// its uncertainty, and step-backwater water-surface profiles of steady
+// subcritical flow, with the stage–discharge rating they give at a section
+// and their verification against high-water marks.
 //
 // Sections are given upstream first, each with its distance along the
 // channel (increasing downstream) and its high-water marks. Lengths,

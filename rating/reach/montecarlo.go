@@ -37,6 +37,9 @@ const (
 	// 0.001 in n, and 0.001 length unit in a water surface.
 	SensitivityNStep = 0.001
 	SensitivityHStep = 0.001
+	// MilliN is the change of 0.001 in Manning's n in which the
+	// sensitivity DQDNPerMilli is stated.
+	MilliN = 0.001
 )
 
 // MonteCarloOptions configure the uncertainty analysis. The zero value is
@@ -79,9 +82,13 @@ type Uncertainty struct {
 	// deviation over √(marks used).
 	WaterSurfaceSD []float64
 	// DQDN is dQ/dn: the change in discharge per unit change of every n
-	// together (discharge unit per unit n; multiply by 0.001 for a change
-	// of 0.001 in n), by central differences of SensitivityNStep.
+	// together, in discharge unit per 1 of n (a change of 0.001 in n moves
+	// the discharge by DQDNPerMilli), by central differences of
+	// SensitivityNStep.
 	DQDN float64
+	// DQDNPerMilli is the same sensitivity in discharge unit per 0.001 of
+	// n (DQDN × MilliN), the unit in which reports quote it.
+	DQDNPerMilli float64
 	// DQDH is dQ/dh for each section's water surface alone (discharge unit
 	// per length unit), upstream first, by central differences of SensitivityHStep.
 	DQDH []float64
@@ -183,6 +190,7 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 	}
 	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
 	u.DQDN, u.DQDH = m.sensitivities(sts)
+	u.DQDNPerMilli = u.DQDN * MilliN
 
 	sigma := math.Sqrt(math.Log1p(u.NCV * u.NCV))
 	q := make([]float64, u.Draws)

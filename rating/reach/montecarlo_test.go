@@ -152,8 +152,13 @@ func TestMonteCarloSensitivities(t *testing.T) {
 		t.Fatal(err)
 	}
 	// Central differences of step 0.001 about n = 0.04: error O((Δn/n)²) ≈ 1e-3.
-	if want := -det.Discharge / n; saRelErr(u.DQDN, want) > 1e-3 {
+	const sensitivityTol = 1e-3
+	if want := -det.Discharge / n; saRelErr(u.DQDN, want) > sensitivityTol {
 		t.Errorf("dQ/dn = %g, want −Q/n = %g", u.DQDN, want)
+	}
+	// Per 0.001 of n: −Q/n × 0.001.
+	if want := -det.Discharge / n * 0.001; saRelErr(u.DQDNPerMilli, want) > sensitivityTol {
+		t.Errorf("dQ per 0.001 of n = %g, want %g", u.DQDNPerMilli, want)
 	}
 	if !(u.DQDH[0] > 0 && u.DQDH[1] < 0) {
 		t.Errorf("dQ/dh = %v, want up > 0, down < 0", u.DQDH)

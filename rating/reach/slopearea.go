@@ -23,12 +23,19 @@ const (
 // such.
 const (
 	// MinReachDepths is the least reach length, in mean depths of flow:
-	// L ≥ 75·d (Dalrymple & Benson, 1967, site selection; from memory).
+	// L ≥ 75·d (common practice, attributed to Dalrymple & Benson, 1967;
+	// confirmed only secondhand).
 	MinReachDepths = 75.0
-	// MinFallSI and MinFallUS are the least total fall, 0.15 m or 0.5 ft
-	// (Dalrymple & Benson, 1967, site selection: 0.5 ft; from memory).
+	// MinFallSI and MinFallUS are the least fall between each pair of
+	// adjacent sections, 0.15 m or 0.5 ft, unless the velocity head is
+	// larger (Dalrymple & Benson, 1967, as quoted by Jarrett, 1985, USGS
+	// WRI 85-4004, p. 7).
 	MinFallSI = 0.15
 	MinFallUS = 0.5
+	// MinSections is the number of sections recommended for a slope-area
+	// reach; a reach of two is warned (Dalrymple & Benson, 1967, as read
+	// in secondary sources).
+	MinSections = 3
 	// MaxConveyanceRatio bounds the ratio of the larger to the smaller
 	// conveyance of adjacent sections, 1/0.7 ≈ 1.43 (adjacent sections
 	// within a conveyance ratio of 0.7 to 1.4, common practice for
@@ -106,6 +113,13 @@ type Section struct {
 	Survey  string
 	Quality rating.Quality
 	Note    string
+	// FlowLengths are the lengths of the flow paths to the next section
+	// downstream (length unit) in each region, for the step-backwater
+	// method, which weights them by conveyance (WeightedLength). All zero
+	// means the distance to the next section for every path; a zero entry
+	// beside others means that distance for its path. Unused at the last
+	// section and by the slope-area method.
+	FlowLengths subdivide.PerRegion
 }
 
 // SlopeAreaOptions configure a slope-area computation. The zero value is
@@ -120,8 +134,9 @@ type SlopeAreaOptions struct {
 	// MarkSpread is the tolerance between a section's two marks (length
 	// unit); zero means MarkSpreadSI or MarkSpreadUS.
 	MarkSpread float64
-	// MinFall is the least acceptable total fall (length unit); zero means
-	// MinFallSI or MinFallUS.
+	// MinFall is the least acceptable fall between each pair of adjacent
+	// sections (length unit), unless the velocity head is larger; zero
+	// means MinFallSI or MinFallUS.
 	MinFall float64
 }
 
@@ -203,7 +218,10 @@ type SectionResult struct {
 	// Velocity is Q/A; VelocityHead α·V²/(2g); EnergyGrade WaterSurface +
 	// VelocityHead; Froude √(α·Q²·T/(g·A³)).
 	Velocity, VelocityHead, EnergyGrade, Froude float64
-	// Subs is each subsection's share; Discharge is Q·Ki/K.
+	// Subs is each subsection at the peak discharge, the first thing a
+	// reviewer checks: its stations (From, To), Manning's n, region, area,
+	// wetted perimeter, top width, conveyance Ki, discharge Q·Ki/K and
+	// velocity (NaN where dry).
 	Subs []rating.SubRow
 	// Ground is the section's ground line with bank points inserted (nil
 	// when the geometry is not a surveyed *subdivide.Profile).
@@ -241,7 +259,8 @@ type Check struct {
 	// they compare for a pass ("≥" or "≤" or "<").
 	Value, Limit float64
 	Relation     string
-	// Pass is true when the criterion holds; otherwise it is a warning.
+	// Pass is true when the criterion holds; otherwise the check warns
+	// (Status "warn", and a warning on the result in the same word).
 	Pass bool
 	// Source cites the criterion.
 	Source string
@@ -574,9 +593,10 @@ func saFillSections(res *SlopeArea, secs []Section, ws []float64, used []int, st
 
 // Sources of the checks, as printed beside them.
 const (
-	srcFallHV    = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: fall at least the velocity head (from memory)"
-	srcMinFall   = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: fall at least 0.5 ft (from memory)"
-	srcLength    = "Dalrymple & Benson 1967 (TWRI 3-A2), site selection: length at least 75 mean depths (from memory)"
+	srcPairFall = "Dalrymple & Benson 1967 (TWRI 3-A2), as quoted by Jarrett 1985 (USGS WRI 85-4004, p. 7): " +
+		"fall between each pair of sections at least the larger of 0.5 ft (0.15 m) and the velocity head"
+	srcSections  = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
+	srcLength    = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
 	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
@@ -584,13 +604,13 @@ const (
 )
 
 // saChecks evaluates the quality criteria of a solved reach and adds a
-// warning for each that fails.
+// warning for each that does not pass, in the word of Check.Status.
 func saChecks(res *SlopeArea) []Check {
 	cs := saCheckList(res)
 	for _, c := range cs {
 		if !c.Pass {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("quality check %q fails: value %s, wanted %s %s (%s)",
-				c.Name, saSig(c.Value), c.Relation, saSig(c.Limit), c.Source))
+			res.Warnings = append(res.Warnings, fmt.Sprintf("quality check %q: %s, value %s, wanted %s %s (%s)",
+				c.Name, c.Status(), saSig(c.Value), c.Relation, saSig(c.Limit), c.Source))
 		}
 	}
 	return cs
@@ -598,20 +618,18 @@ func saChecks(res *SlopeArea) []Check {
 
 func saCheckList(res *SlopeArea) []Check {
 	var cs []Check
-	maxHV, meanD := 0.0, 0.0
+	meanD := 0.0
 	for _, s := range res.Sections {
-		maxHV = math.Max(maxHV, s.VelocityHead)
 		meanD += s.HydraulicDepth
 	}
 	meanD /= float64(len(res.Sections))
 	if res.Method == MethodSlopeArea {
-		cs = append(cs,
-			Check{Name: "fall vs velocity head", Value: res.Fall, Limit: maxHV, Relation: "≥",
-				Pass: res.Fall >= maxHV, Source: srcFallHV},
-			Check{Name: "minimum fall", Value: res.Fall, Limit: res.MinFall, Relation: "≥",
-				Pass: res.Fall >= res.MinFall, Source: srcMinFall},
-			Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
-				Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
+		n := len(res.Sections)
+		cs = append(cs, Check{Name: "sections in the reach", Value: float64(n), Limit: MinSections, Relation: "≥",
+			Pass: n >= MinSections, Source: srcSections})
+		cs = append(cs, saFallChecks(res)...)
+		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
+			Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
@@ -638,6 +656,21 @@ func saCheckList(res *SlopeArea) []Check {
 		d := math.Abs(s.Left - s.Right)
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
+	}
+	return cs
+}
+
+// saFallChecks checks the fall of every subreach against the larger of
+// the least fall and the velocity head. The velocity head of a pair is
+// taken as the larger of its two sections' (this project's reading of the
+// rule, which names one velocity head).
+func saFallChecks(res *SlopeArea) []Check {
+	cs := make([]Check, 0, len(res.Subreaches))
+	for _, sr := range res.Subreaches {
+		hv := math.Max(res.Sections[sr.FromIndex].VelocityHead, res.Sections[sr.ToIndex].VelocityHead)
+		limit := math.Max(res.MinFall, hv)
+		cs = append(cs, Check{Name: "fall " + sr.From + " to " + sr.To, Value: sr.Fall, Limit: limit, Relation: "≥",
+			Pass: sr.Fall >= limit, Source: srcPairFall})
 	}
 	return cs
 }

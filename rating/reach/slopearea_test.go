@@ -3,6 +3,7 @@ package reach
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -296,7 +297,8 @@ func TestSlopeAreaChecks(t *testing.T) {
 		"mark spread B":              true,
 		"contracting A to B":         false,
 		"reach length vs mean depth": false,
-		"minimum fall":               false, // fall 0.1 m < 0.15 m
+		"fall A to B":                false, // fall 0.1 m < 0.15 m
+		"sections in the reach":      false, // two sections
 		"conveyance ratio A to B":    false, // widths 8 and 12
 		"froude A":                   true,
 	} {
@@ -419,5 +421,117 @@ func TestSlopeAreaUSUnits(t *testing.T) {
 	u, err := MonteCarlo(secs, SlopeAreaOptions{Units: rating.US}, MonteCarloOptions{Draws: 10})
 	if err != nil || u.MarkSD != DefaultMarkSDUS {
 		t.Errorf("US mark SD %g, %v", u.MarkSD, err)
+	}
+}
+
+// The fall of each pair of sections is checked against the larger of
+// 0.15 m and the velocity head (Dalrymple & Benson 1967, as quoted by
+// Jarrett 1985, USGS WRI 85-4004, p. 7): a reach whose total fall passes
+// can still have a pair that does not; and in a steep uniform reach the
+// velocity head, Q²/(2g·A²) with Q = K·√(F/L) (Manning's equation, Chow
+// 1959, eq. 6-9; α = 1 in a rectangle of one n), is the limit.
+func TestSlopeAreaPairFall(t *testing.T) {
+	const g = 9.80665
+	t.Run("short pair", func(t *testing.T) {
+		secs := []Section{
+			{ID: "A", Geometry: saTrapezoid(t, 30, 2, 100, 6, 0.04), Distance: 0, Left: 102.50, Right: math.NaN()},
+			{ID: "B", Geometry: saTrapezoid(t, 30, 2, 99.95, 6, 0.04), Distance: 200, Left: 102.45, Right: math.NaN()},
+			{ID: "C", Geometry: saTrapezoid(t, 30, 2, 99.5, 6, 0.04), Distance: 500, Left: 102.00, Right: math.NaN()},
+		}
+		res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := map[string]Check{}
+		for _, c := range res.Checks {
+			got[c.Name] = c
+		}
+		ab, bc := got["fall A to B"], got["fall B to C"]
+		if ab.Pass || saRelErr(ab.Value, 0.05) > saClosedFormTol || ab.Limit != MinFallSI || ab.Source != srcPairFall {
+			t.Errorf("fall A to B: %+v", ab)
+		}
+		if !bc.Pass || saRelErr(bc.Value, 0.45) > saClosedFormTol {
+			t.Errorf("fall B to C: %+v", bc)
+		}
+		if c := got["sections in the reach"]; !c.Pass || c.Value != 3 {
+			t.Errorf("three sections: %+v", c)
+		}
+	})
+	t.Run("velocity head", func(t *testing.T) {
+		const b, y, n, f, l = 5.0, 1.0, 0.03, 0.2, 20.0
+		secs := []Section{
+			{ID: "A", Geometry: saTrapezoid(t, b, 0, 10, 3, n), Distance: 0, Left: 10 + y, Right: math.NaN()},
+			{ID: "B", Geometry: saTrapezoid(t, b, 0, 10-f, 3, n), Distance: l, Left: 10 - f + y, Right: math.NaN()},
+		}
+		res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, k, _ := saTrapezoidAKT(b, 0, y, n)
+		q := k * math.Sqrt(f/l)
+		hv := q * q / (2 * g * a * a)
+		var fall, count Check
+		for _, c := range res.Checks {
+			switch c.Name {
+			case "fall A to B":
+				fall = c
+			case "sections in the reach":
+				count = c
+			}
+		}
+		if fall.Pass || saRelErr(fall.Limit, hv) > saClosedFormTol || !(hv > MinFallSI) {
+			t.Errorf("fall check %+v, velocity head %g", fall, hv)
+		}
+		if count.Pass || count.Value != 2 || count.Limit != MinSections {
+			t.Errorf("two sections: %+v", count)
+		}
+		warned := false
+		for _, w := range res.Warnings {
+			if strings.Contains(w, "fails") {
+				t.Errorf("a warning says fails, the checks say warn: %q", w)
+			}
+			warned = warned || strings.Contains(w, `"sections in the reach": warn`) && strings.Contains(w, "three or more sections recommended")
+		}
+		if !warned {
+			t.Errorf("no two-section warning: %q", res.Warnings)
+		}
+	})
+}
+
+// Each section's result carries its subsections at the peak: stations,
+// n, area and conveyance, adding up to the section's.
+func TestSlopeAreaSubsections(t *testing.T) {
+	g, err := subdivide.Compile(subdivide.Section{
+		Points:   saPoints(0, 5, 20, 3, 30, 2.8, 32, 0.5, 40, 0, 45, 0.4, 47, 2.9, 70, 3.5, 80, 5),
+		HasBanks: true, LeftBank: 30, RightBank: 47, NByRegion: subdivide.PerRegion{Channel: 0.035, Left: 0.06, Right: 0.08},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	secs := []Section{
+		{ID: "A", Geometry: g, Distance: 0, Left: 3.6, Right: math.NaN()},
+		{ID: "B", Geometry: g, Distance: 300, Left: 3.3, Right: math.NaN()},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := res.Sections[0]
+	if len(s.Subs) != 3 {
+		t.Fatalf("%d subsections", len(s.Subs))
+	}
+	var a, k float64
+	for i, want := range []struct {
+		from, to, n float64
+	}{{0, 30, 0.06}, {30, 47, 0.035}, {47, 80, 0.08}} {
+		sub := s.Subs[i]
+		if sub.From != want.from || sub.To != want.to || sub.N != want.n {
+			t.Errorf("subsection %d: stations %g to %g, n %g", i, sub.From, sub.To, sub.N)
+		}
+		a += sub.Area
+		k += sub.Conveyance
+	}
+	if saRelErr(a, s.Area) > saClosedFormTol || saRelErr(k, s.Conveyance) > saClosedFormTol {
+		t.Errorf("subsections add to area %g and K %g, section %g and %g", a, k, s.Area, s.Conveyance)
 	}
 }

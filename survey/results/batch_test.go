@@ -32,7 +32,7 @@ func TestWriteIndexCSV(t *testing.T) {
 func TestLongRatingWriter(t *testing.T) {
 	p, err := subdivide.Compile(subdivide.Section{
 		Points:    []subdivide.Point{{Station: 0, Elevation: 2}, {Station: 2, Elevation: 0}, {Station: 4, Elevation: 2}},
-		NByRegion: subdivide.RegionN{Channel: 0.03},
+		NByRegion: subdivide.PerRegion{Channel: 0.03},
 	})
 	if err != nil {
 		t.Fatal(err)

@@ -1,0 +1,639 @@
+package reach
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// Tolerances of the step-backwater tests.
+const (
+	// normalTol is the relative tolerance on depth between the upstream
+	// end of a long prismatic reach and the normal depth of
+	// rating.NormalStages (which is found to rating.DepthTolerance).
+	normalTol = 10 * rating.DepthTolerance
+	// energyBalanceTol is the relative tolerance to which the energy
+	// equation, recomputed in the test from rating.Hydraulics on
+	// Geometry.At, balances at every subreach (relative to the specific
+	// energy of the upstream section).
+	energyBalanceTol = 1e-9
+	// monotoneSlack is the depth change (relative) below which two depths
+	// of a converged profile count as equal in a monotonicity check.
+	monotoneSlack = 1e-9
+	// pathTol is the relative depth tolerance between profiles that solve
+	// the same equations exactly by different paths (the piecewise form
+	// or At; another order of discharges): both are found to
+	// BackwaterStageTolerance.
+	pathTol = 1e-9
+	// settledSpread is the spread below which the two profiles of a long
+	// reach count as joined: a thousandth of the default tolerance.
+	settledSpread = 1e-3 * SpreadToleranceSI
+)
+
+// prismNormal returns the highest normal stage of q at slope s in g
+// (rating.NormalStages: Manning's equation, Chow 1959, section 6-4).
+func prismNormal(t *testing.T, g subdivide.Geometry, q, s float64, u rating.Units) rating.Root {
+	t.Helper()
+	roots, err := rating.NormalStages(g, q, rating.Options{Slope: s, Units: u})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return roots[len(roots)-1]
+}
+
+// In a long prismatic channel on a mild slope the profile tends upstream
+// to the normal depth, from above along an M1 curve when the boundary
+// stage is raised above normal, from below along an M2 curve when it is
+// at critical depth: depth decreasing upstream towards normal in the
+// first, increasing towards it in the second, and never crossing it
+// (Chow 1959, Open-Channel Hydraulics, sections 9-1 to 9-3: the M1
+// backwater and M2 drawdown curves). In the last case the compound
+// section has three critical depths at the discharge (Blalock and Sturm
+// 1981, J. Hydraulics Div. ASCE 107(HY6)): in-bank, where the flat
+// floodplains are wetted, and on them; normal depth is in-bank, in the
+// lower of the two subcritical bands, and the profile must find it there.
+// Chow's curves assume one critical depth, so their shape is not checked
+// in that case: a profile falling from the floodplains drops into the
+// channel where the upper subcritical root vanishes.
+func TestBackwaterTendsToNormal(t *testing.T) {
+	for _, tc := range []struct {
+		name, spec string
+		n          subdivide.PerRegion
+		q, s0, dx  float64
+		m          int
+		units      rating.Units
+		crits      int // critical stages expected; when > 1 the curve's shape is not checked
+	}{
+		{"trapezoid", "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 50, 0.001, 300, 40, rating.SI, 0},
+		{"wide rectangle", "rectangle:width=40", subdivide.Uniform(0.025), 120, 0.0005, 400, 60, rating.SI, 0},
+		{"compound", "compound:bottom=8,side=1.5,depth=2,floodplain=30,outer=2,floodn=0.06", subdivide.PerRegion{Channel: 0.03, Left: 0.06, Right: 0.06}, 90, 0.001, 300, 50, rating.SI, 0},
+		{"trapezoid, feet", "trapezoid:bottom=30,side=2", subdivide.Uniform(0.03), 1800, 0.001, 1000, 40, rating.US, 0},
+		{"compound, three critical depths", "compound:bottom=6,side=1,depth=1.5,floodplain=80,outer=2,floodn=0.05", subdivide.PerRegion{Channel: 0.03, Left: 0.05, Right: 0.05}, 20, 0.003, 200, 60, rating.SI, 3},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := prismReach(t, tc.spec, tc.n, tc.m, tc.dx, tc.s0)
+			last := secs[len(secs)-1].Geometry
+			sol, err := rating.Solve(last, tc.q, rating.Options{Slope: tc.s0, Units: tc.units})
+			if err != nil {
+				t.Fatal(err)
+			}
+			yn := prismNormal(t, last, tc.q, tc.s0, tc.units).Depth
+			if fr := sol.Normal[len(sol.Normal)-1].Row.Froude; !(fr < 1) {
+				t.Fatalf("Froude number %g at normal depth: not a mild slope", fr)
+			}
+			if tc.crits > 0 && len(sol.Critical) != tc.crits {
+				t.Fatalf("%d critical stages, want %d", len(sol.Critical), tc.crits)
+			}
+			for _, b := range []struct {
+				curve string
+				bd    Boundary
+			}{
+				{"M1", Boundary{Kind: KnownStage, Stage: last.Bottom() + yn + 1.5}},
+				{"M2", Boundary{Kind: CriticalDepth}},
+			} {
+				res, err := ComputeBackwater(secs, []float64{tc.q}, b.bd, BackwaterOptions{Units: tc.units})
+				if err != nil {
+					t.Fatal(err)
+				}
+				ps := res.Profiles[0].Sections
+				for j := len(ps) - 2; j >= 0 && tc.crits <= 1; j-- {
+					y, ydn := ps[j].WaterSurface-ps[j].Bottom, ps[j+1].WaterSurface-ps[j+1].Bottom
+					slack := monotoneSlack * yn
+					switch b.curve {
+					case "M1": // above normal, falling upstream
+						if y < yn-slack || y > ydn+slack {
+							t.Errorf("%s %s: depth %g after %g downstream, normal %g", b.curve, ps[j].ID, y, ydn, yn)
+						}
+					case "M2": // below normal, rising upstream
+						if y > yn+slack || y < ydn-slack {
+							t.Errorf("%s %s: depth %g after %g downstream, normal %g", b.curve, ps[j].ID, y, ydn, yn)
+						}
+					}
+					if ps[j].Critical || !(ps[j].Froude < 1) {
+						t.Errorf("%s %s: critical %v, Froude %g", b.curve, ps[j].ID, ps[j].Critical, ps[j].Froude)
+					}
+				}
+				if y := ps[0].WaterSurface - ps[0].Bottom; math.Abs(y-yn) > normalTol*yn {
+					t.Errorf("%s: upstream depth %.9g, normal depth %.9g", b.curve, y, yn)
+				}
+			}
+		})
+	}
+}
+
+// hydraulicsAt returns rating.Hydraulics of g at stage h (slope 1).
+func hydraulicsAt(t *testing.T, g subdivide.Geometry, h float64, gopt subdivide.Options) rating.Row {
+	t.Helper()
+	w, err := g.At(h, gopt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := rating.Hydraulics(w, g.Bottom(), 1, rating.SI)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// regionK sums a row's subsection conveyances by region.
+func regionK(r rating.Row) [3]float64 {
+	var k [3]float64 // indexed by subdivide.Region
+	for _, s := range r.Subs {
+		k[s.Region] += s.Conveyance
+	}
+	return k
+}
+
+// The energy equation of Davidian (1984, TWRI 3-A15) and Chow (1959,
+// section 10-2), recomputed in the test from rating.Hydraulics on the
+// sections' exact geometry (Geometry.At) at the computed stages, balances
+// at every subreach of natural sections from in-bank to overbank flow,
+// with conveyance-weighted lengths on some subreaches:
+//
+//	hu + αu·Vu²/2g = hd + αd·Vd²/2g + L·Q²/(Ku·Kd) + k·|Δ(α·V²/2g)|
+func TestBackwaterEnergyBalance(t *testing.T) {
+	const g = 9.80665
+	secs := naturalReach(t, 12, 120, 200, 0.001)
+	secs[2].FlowLengths = subdivide.PerRegion{Channel: 200, Left: 260, Right: 230} // a bend: the overbanks are shorter
+	secs[5].FlowLengths = subdivide.PerRegion{Channel: 190, Left: 0, Right: 215}
+	gopt := subdivide.Options{Connected: true}
+	opt := BackwaterOptions{Geometry: gopt, Expansion: 0.3, Contraction: 0.1}
+	res, err := ComputeBackwater(secs, ladder(2, 600, 25), Boundary{Kind: NormalDepth, Slope: 0.001}, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked, jumps, overbank := 0, 0, false
+	for _, p := range res.Profiles {
+		q := p.Discharge
+		for j := 0; j+1 < len(secs); j++ {
+			up, dn := p.Sections[j], p.Sections[j+1]
+			if up.Critical {
+				continue
+			}
+			if up.Jump {
+				jumps++
+				continue
+			}
+			ru := hydraulicsAt(t, secs[j].Geometry, up.WaterSurface, gopt)
+			rd := hydraulicsAt(t, secs[j+1].Geometry, dn.WaterSurface, gopt)
+			hvu := ru.Alpha * q * q / (2 * g * ru.Area * ru.Area)
+			hvd := rd.Alpha * q * q / (2 * g * rd.Area * rd.Area)
+			l := secs[j+1].Distance - secs[j].Distance
+			if fl := secs[j].FlowLengths.Array(); fl != [3]float64{} {
+				for i := range fl { // a zero entry is the distance
+					if fl[i] == 0 {
+						fl[i] = l
+					}
+				}
+				// Davidian (1984): ΣLi·Ki/K at each end, averaged.
+				ku, kd := regionK(ru), regionK(rd)
+				l = 0.5 * ((fl[0]*ku[0]+fl[1]*ku[1]+fl[2]*ku[2])/ru.Conveyance + (fl[0]*kd[0]+fl[1]*kd[1]+fl[2]*kd[2])/rd.Conveyance)
+			}
+			k := 0.1
+			if hvu > hvd {
+				k = 0.3
+			}
+			lhs := up.WaterSurface + hvu
+			rhs := dn.WaterSurface + hvd + l*q*q/(ru.Conveyance*rd.Conveyance) + k*math.Abs(hvu-hvd)
+			e := ru.Depth + hvu // specific energy upstream
+			if math.Abs(lhs-rhs) > energyBalanceTol*e || math.Abs(up.Residual) > energyBalanceTol*e {
+				t.Errorf("Q %g %s: energy %.12g against %.12g (residual %.3g, specific energy %.4g)", q, up.ID, lhs, rhs, lhs-rhs, e)
+			}
+			if math.Abs(up.Length-l) > energyBalanceTol*l {
+				t.Errorf("Q %g %s: subreach length %.9g, hand %.9g", q, up.ID, up.Length, l)
+			}
+			if math.Abs(up.VelocityHead-hvu) > energyBalanceTol*e {
+				t.Errorf("Q %g %s: velocity head %g, want %g", q, up.ID, up.VelocityHead, hvu)
+			}
+			overbank = overbank || ru.Subs[0].Area > 0
+			checked++
+		}
+	}
+	if checked < 200 || !overbank || jumps > checked/50 {
+		t.Errorf("checked %d subreaches, %d at a jump, overbank flow %v", checked, jumps, overbank)
+	}
+}
+
+// WeightedLength against a hand computation (Davidian 1984, weighted
+// length of a subreach): upstream K = 100, 600, 300 and lengths 90, 100,
+// 120 give (9 000 + 60 000 + 36 000)/1 000 = 105; downstream K = 200,
+// 600, 200 give (18 000 + 60 000 + 24 000)/1 000 = 102; the mean is 103.5.
+// Channel, left, right are indexed by subdivide.Region.
+func TestWeightedLength(t *testing.T) {
+	l := subdivide.PerRegion{Channel: 100, Left: 90, Right: 120}
+	ku := subdivide.PerRegion{Channel: 600, Left: 100, Right: 300}
+	kd := subdivide.PerRegion{Channel: 600, Left: 200, Right: 200}
+	for _, tc := range []struct {
+		name   string
+		ku, kd subdivide.PerRegion
+		want   float64
+	}{
+		{"both", ku, kd, 103.5},
+		{"in-bank only", subdivide.PerRegion{Channel: 500}, subdivide.PerRegion{Channel: 700}, 100},
+		{"upstream dry", subdivide.PerRegion{}, kd, 102},
+	} {
+		if got := WeightedLength(l, tc.ku, tc.kd); saRelErr(got, tc.want) > saClosedFormTol {
+			t.Errorf("%s: %.15g, hand %g", tc.name, got, tc.want)
+		}
+	}
+	if got := WeightedLength(l, subdivide.PerRegion{}, subdivide.PerRegion{}); !math.IsNaN(got) {
+		t.Errorf("no conveyance: %g, want NaN", got)
+	}
+}
+
+// hideAll wraps every section's geometry so that it is evaluated with At.
+func hideAll(secs []Section) []Section {
+	out := append([]Section(nil), secs...)
+	for i := range out {
+		out[i].Geometry = hidden{out[i].Geometry}
+	}
+	return out
+}
+
+// The exact piecewise form and stage-by-stage evaluation with At give the
+// same profiles, and the order in which discharges are given (which
+// changes the warm starts) does not change them.
+func TestBackwaterPathsAgree(t *testing.T) {
+	secs := naturalReach(t, 8, 80, 250, 0.0008)
+	qs := []float64{300, 5, 120, 40, 450, 12}
+	bd := Boundary{Kind: NormalDepth, Slope: 0.0008}
+	opt := BackwaterOptions{Geometry: subdivide.Options{Connected: true}}
+	fast, err := ComputeBackwater(secs, qs, bd, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	slow, err := ComputeBackwater(hideAll(secs), qs, bd, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rev := []float64{12, 450, 40, 120, 5, 300}
+	back, err := ComputeBackwater(secs, rev, bd, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range fast.Profiles {
+		for j, s := range p.Sections {
+			d := s.WaterSurface - s.Bottom
+			for _, o := range []struct {
+				what string
+				s    ProfileSection
+			}{{"with At", slow.Profiles[i].Sections[j]}, {"reordered", back.Profiles[len(qs)-1-i].Sections[j]}} {
+				if math.Abs(o.s.WaterSurface-s.WaterSurface) > pathTol*d || o.s.Critical != s.Critical {
+					t.Errorf("Q %g %s: %.12g, %s %.12g", p.Discharge, s.ID, s.WaterSurface, o.what, o.s.WaterSurface)
+				}
+			}
+		}
+	}
+}
+
+// Where the bed drops by more than the flow can climb back, no
+// subcritical stage upstream balances the energy equation: the stage is
+// critical depth (Froude number 1, Chow 1959, section 4-2) and the row
+// and the warnings say so. A boundary stage below critical depth is
+// replaced by critical depth.
+func TestBackwaterCriticalFallback(t *testing.T) {
+	secs := prismReach(t, "rectangle:width=10", subdivide.Uniform(0.03), 3, 100, 0.001)
+	drop, err := subdivide.ParseShape("rectangle:width=10,invert=95")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if secs[2].Geometry, err = drop.Build(subdivide.Uniform(0.03)); err != nil {
+		t.Fatal(err)
+	}
+	const q = 30.0
+	res, err := ComputeBackwater(secs, []float64{q}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := res.Profiles[0]
+	s := p.Sections[1]
+	yc := math.Cbrt(q * q / (9.80665 * 100)) // rectangle: yc = ∛(q²/g) per unit width (Chow 1959, eq. 4-8 form)
+	if !s.Critical || math.Abs(s.Froude-1) > saClosedFormTol || math.Abs(s.WaterSurface-s.Bottom-yc) > saClosedFormTol*yc {
+		t.Errorf("section above the drop: critical %v, Froude %g, depth %g (critical depth %g)", s.Critical, s.Froude, s.WaterSurface-s.Bottom, yc)
+	}
+	if len(p.Warnings) == 0 || !strings.Contains(strings.Join(res.Warnings, " "), "critical depth") {
+		t.Errorf("no warning of critical depth: %q %q", p.Warnings, res.Warnings)
+	}
+	if p.Sections[0].Critical {
+		t.Error("the section upstream of the critical one is critical too")
+	}
+	// A known stage below critical depth at the last section.
+	last := secs[2].Geometry.Bottom()
+	res, err = ComputeBackwater(secs, []float64{q}, Boundary{Kind: KnownStage, Stage: last + 0.5*yc}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	s = res.Profiles[0].Sections[2]
+	if !s.Critical || !res.Profiles[0].StartCritical || math.Abs(s.WaterSurface-last-yc) > saClosedFormTol*yc {
+		t.Errorf("boundary below critical: critical %v, depth %g, want %g", s.Critical, s.WaterSurface-last, yc)
+	}
+	if len(res.Profiles[0].Warnings) == 0 {
+		t.Error("no warning for a boundary stage below critical depth")
+	}
+}
+
+// Profiles from the two starts converge upstream (Davidian 1984,
+// convergence of backwater curves): at the upstream end of a long reach
+// they agree, at the first section upstream of the boundary they do not,
+// and a rating read there is unsettled and warned.
+func TestBackwaterConvergence(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 40, 300, 0.001)
+	bd := Boundary{Kind: NormalDepth, Slope: 0.001}
+	long, err := ComputeBackwater(secs, []float64{20, 50}, bd, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	short, err := ComputeBackwater(secs, []float64{20, 50}, bd, BackwaterOptions{At: secs[38].ID})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, rd := range long.Rating.Rows {
+		if rd.Unsettled || rd.Spread > settledSpread {
+			t.Errorf("long reach: spread %g unsettled %v", rd.Spread, rd.Unsettled)
+		}
+		p := long.Profiles[i]
+		if !p.SecondCritical || p.StartCritical || math.Abs(p.Sections[39].WaterSurface-p.Start) != 0 {
+			t.Errorf("starts %g (critical %v) and %g (critical %v)", p.Start, p.StartCritical, p.SecondStart, p.SecondCritical)
+		}
+		if sr := short.Rating.Rows[i]; !sr.Unsettled || !(sr.Spread > SpreadToleranceSI) {
+			t.Errorf("one subreach from the boundary: spread %g unsettled %v", sr.Spread, sr.Unsettled)
+		}
+	}
+	if strings.Contains(strings.Join(long.Warnings, " "), "too short") {
+		t.Errorf("long reach warned: %q", long.Warnings)
+	}
+	if !strings.Contains(strings.Join(short.Warnings, " "), "too short for the boundary to be forgotten") {
+		t.Errorf("short reach not warned: %q", short.Warnings)
+	}
+	// A critical-depth boundary is checked against a raised start.
+	crit, err := ComputeBackwater(secs, []float64{50}, Boundary{Kind: CriticalDepth}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := crit.Profiles[0]
+	bottom := secs[39].Geometry.Bottom()
+	if !p.StartCritical || p.SecondCritical || saRelErr(p.SecondStart-bottom, RaisedStartFactor*(p.Start-bottom)) > saClosedFormTol {
+		t.Errorf("critical boundary: starts %g and %g", p.Start, p.SecondStart)
+	}
+}
+
+// The boundary kinds agree where they describe the same stage: a known
+// stage equal to the normal stage of rating.NormalStages, a stage
+// function giving it, and a stage-discharge table of the last section's
+// uniform-flow rating (rating.Compute, Manning's equation) at stages Δh =
+// 0.01 m apart, read by linear interpolation. The first two agree with
+// the normal-depth boundary to rating.DepthTolerance of the depth. The
+// table errs by linear interpolation: in stage, about Δh²·|Q″|/(8·Q′)
+// with Q′ and Q″ the derivatives of discharge with stage (taken from the
+// table by finite differences), and the difference can only shrink
+// upstream as the profiles converge.
+func TestBackwaterBoundaries(t *testing.T) {
+	const s0, q, dh = 0.001, 37.0, 0.01
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5", subdivide.Uniform(0.035), 6, 200, s0)
+	last := secs[5].Geometry
+	hn := prismNormal(t, last, q, s0, rating.SI)
+	stages, err := rating.StageRange(last.Bottom()+dh, last.Bottom()+5, dh)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := rating.Compute(last, stages, rating.Options{Slope: s0})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var pts []StageDischarge
+	var interp float64 // the interpolation bound about the normal stage
+	for i, r := range tab.Rows {
+		pts = append(pts, StageDischarge{Stage: r.Stage, Discharge: r.Discharge})
+		if i > 0 && i+1 < len(tab.Rows) && math.Abs(r.Stage-hn.Stage) < 2*dh {
+			q1 := (tab.Rows[i+1].Discharge - tab.Rows[i-1].Discharge) / (2 * dh)
+			q2 := (tab.Rows[i+1].Discharge - 2*r.Discharge + tab.Rows[i-1].Discharge) / (dh * dh)
+			interp = math.Max(interp, dh*dh*math.Abs(q2)/(8*q1))
+		}
+	}
+	normal, err := ComputeBackwater(secs, []float64{q}, Boundary{Kind: NormalDepth, Slope: s0}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := normal.Profiles[0]
+	if d := want.Start - hn.Stage; math.Abs(d) > rating.DepthTolerance*hn.Depth {
+		t.Errorf("normal start %g, rating.NormalStages %g", want.Start, hn.Stage)
+	}
+	for _, tc := range []struct {
+		name string
+		bd   Boundary
+		tol  float64
+	}{
+		{"known stage", Boundary{Kind: KnownStage, Stage: hn.Stage}, rating.DepthTolerance * hn.Depth},
+		{"stage function", Boundary{Kind: StageRating, StageOf: func(float64) (float64, error) { return hn.Stage, nil }}, rating.DepthTolerance * hn.Depth},
+		{"stage table", Boundary{Kind: StageRating, Rating: pts}, interp},
+	} {
+		res, err := ComputeBackwater(secs, []float64{q}, tc.bd, BackwaterOptions{})
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		p := res.Profiles[0]
+		if d := p.Start - want.Start; math.Abs(d) > tc.tol {
+			t.Errorf("%s: start %.7f, normal depth %.7f (tolerance %.2g)", tc.name, p.Start, want.Start, tc.tol)
+		}
+		if d := p.Sections[0].WaterSurface - want.Sections[0].WaterSurface; math.Abs(d) > tc.tol {
+			t.Errorf("%s: upstream stage %.7f, from normal depth %.7f", tc.name, p.Sections[0].WaterSurface, want.Sections[0].WaterSurface)
+		}
+	}
+	if !(interp > 0) {
+		t.Fatal("no interpolation bound")
+	}
+	if _, err := ComputeBackwater(secs, []float64{q, 1e5}, Boundary{Kind: StageRating, Rating: pts}, BackwaterOptions{}); !errors.Is(err, ErrBoundaryRange) {
+		t.Errorf("discharge beyond the table: %v", err)
+	}
+}
+
+// Inputs that are not steady subcritical open-channel flow through
+// surveyed sections are refused with a sentinel error.
+func TestBackwaterRefuses(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5", subdivide.Uniform(0.035), 3, 200, 0.001)
+	pipe, err := subdivide.ParseShape("circle:diameter=2,invert=99.7")
+	if err != nil {
+		t.Fatal(err)
+	}
+	culvert, err := pipe.Build(subdivide.Uniform(0.013))
+	if err != nil {
+		t.Fatal(err)
+	}
+	with := func(f func(s []Section)) []Section {
+		s := append([]Section(nil), secs...)
+		f(s)
+		return s
+	}
+	normal := Boundary{Kind: NormalDepth, Slope: 0.001}
+	for _, tc := range []struct {
+		name  string
+		secs  []Section
+		qs    []float64
+		bd    Boundary
+		opt   BackwaterOptions
+		want  error
+		field string
+	}{
+		{"culvert", with(func(s []Section) { s[1].Geometry = culvert }), []float64{10}, normal, BackwaterOptions{}, ErrClosedConduit, "geometry"},
+		{"one section", secs[:1], []float64{10}, normal, BackwaterOptions{}, ErrBackwaterSections, ""},
+		{"distances", with(func(s []Section) { s[2].Distance = s[1].Distance }), []float64{10}, normal, BackwaterOptions{}, ErrDistances, "distance"},
+		{"flow length", with(func(s []Section) { s[0].FlowLengths = subdivide.PerRegion{Channel: 200, Left: -5, Right: 0} }), []float64{10}, normal, BackwaterOptions{}, ErrFlowLength, "flow_lengths"},
+		{"zero discharge", secs, []float64{10, 0}, normal, BackwaterOptions{}, ErrDischarge, ""},
+		{"no discharges", secs, nil, normal, BackwaterOptions{}, ErrNoDischarges, ""},
+		{"no slope", secs, []float64{10}, Boundary{Kind: NormalDepth}, BackwaterOptions{}, ErrBoundary, ""},
+		{"dry stage", secs, []float64{10}, Boundary{Kind: KnownStage, Stage: 90}, BackwaterOptions{}, ErrBoundary, ""},
+		{"falling table", secs, []float64{10}, Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 5}, {101, 4}}}, BackwaterOptions{}, ErrBoundary, ""},
+		{"eddy k", secs, []float64{10}, normal, BackwaterOptions{Expansion: 1.5}, ErrEddyK, ""},
+		{"rating section", secs, []float64{10}, normal, BackwaterOptions{At: "nowhere"}, ErrRatingSection, ""},
+		{"above the ends", prismReach(t, "trapezoid:bottom=6,side=1.5,height=2", subdivide.Uniform(0.035), 3, 200, 0.001),
+			[]float64{10, 500}, normal, BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}}, subdivide.ErrAboveEnds, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ComputeBackwater(tc.secs, tc.qs, tc.bd, tc.opt)
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("err = %v, want %v", err, tc.want)
+			}
+			var se *SectionError
+			if tc.field != "" && (!errors.As(err, &se) || se.Field != tc.field) {
+				t.Errorf("err = %#v, want a SectionError on %s", err, tc.field)
+			}
+		})
+	}
+}
+
+// The rating table at the rating section carries the full hydraulics at
+// each computed stage with the friction slope (Q/K)² there, so each row's
+// Manning discharge K·√Sf is the profile's discharge (Chow 1959, eq. 6-9).
+func TestBackwaterTable(t *testing.T) {
+	secs := naturalReach(t, 6, 60, 200, 0.001)
+	qs := ladder(5, 300, 7)
+	res, err := ComputeBackwater(secs, qs, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{At: secs[3].ID})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := res.Rating.Table()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Rating.Section != secs[3].ID || res.Rating.Index != 3 || len(tab.Rows) != len(qs) || !math.IsNaN(tab.Slope) {
+		t.Fatalf("rating at %s (%d), %d rows, slope %g", res.Rating.Section, res.Rating.Index, len(tab.Rows), tab.Slope)
+	}
+	for i, r := range tab.Rows {
+		rd := res.Rating.Rows[i]
+		if math.Abs(r.Discharge-qs[i]) > energyBalanceTol*qs[i] || r.Stage != rd.Stage || rd.Stage != res.Profiles[i].Sections[3].WaterSurface {
+			t.Errorf("row %d: Q %g stage %g, read Q %g stage %g", i, r.Discharge, r.Stage, rd.Discharge, rd.Stage)
+		}
+		hasFlag := strings.Contains(strings.Join(r.Flags, ","), FlagUnsettled)
+		if hasFlag != rd.Unsettled {
+			t.Errorf("row %d: flags %q, unsettled %v", i, r.Flags, rd.Unsettled)
+		}
+	}
+}
+
+// Marks set at known offsets from a computed profile depart from it by
+// those offsets (computed minus marked).
+func TestVerifyBackwater(t *testing.T) {
+	secs := naturalReach(t, 5, 60, 200, 0.001)
+	bd := Boundary{Kind: NormalDepth, Slope: 0.001}
+	if _, err := VerifyBackwater(secs, 80, bd, BackwaterOptions{}); !errors.Is(err, ErrNoMarks) {
+		t.Fatalf("no marks: %v", err)
+	}
+	res, err := ComputeBackwater(secs, []float64{80}, bd, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ps := res.Profiles[0].Sections
+	secs[0].Left, secs[0].Right = ps[0].WaterSurface+0.04, ps[0].WaterSurface-0.02
+	secs[2].Right = ps[2].WaterSurface - 0.10
+	v, err := VerifyBackwater(secs, 80, bd, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(v.Marks) != 2 || v.Marks[0].Index != 0 || v.Marks[1].Index != 2 {
+		t.Fatalf("marks %+v", v.Marks)
+	}
+	for _, c := range []struct {
+		what      string
+		got, want float64
+	}{
+		{"mean mark departure at 0", v.Marks[0].Departure, -0.01},
+		{"left departure at 0", v.Marks[0].LeftDeparture, -0.04},
+		{"right departure at 0", v.Marks[0].RightDeparture, 0.02},
+		{"departure at 2", v.Marks[1].Departure, 0.10},
+		{"mean departure", v.MeanDeparture, 0.045},
+		{"largest departure", v.MaxDeparture, 0.10},
+	} {
+		if math.Abs(c.got-c.want) > saClosedFormTol {
+			t.Errorf("%s: %g, want %g", c.what, c.got, c.want)
+		}
+	}
+	if !math.IsNaN(v.Marks[1].LeftDeparture) {
+		t.Errorf("no left mark at 2: departure %g", v.Marks[1].LeftDeparture)
+	}
+}
+
+// With Options.NoExtend a discharge that stays within the sections gives
+// the same profile as with the ends extended.
+func TestBackwaterNoExtend(t *testing.T) {
+	secs := naturalReach(t, 5, 60, 200, 0.001)
+	bd := Boundary{Kind: NormalDepth, Slope: 0.001}
+	a, err := ComputeBackwater(secs, []float64{50}, bd, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := ComputeBackwater(secs, []float64{50}, bd, BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for j, s := range a.Profiles[0].Sections {
+		if o := b.Profiles[0].Sections[j]; o.WaterSurface != s.WaterSurface {
+			t.Errorf("%s: %.12g, with NoExtend %.12g", s.ID, s.WaterSurface, o.WaterSurface)
+		}
+	}
+}
+
+// The second boundary can be given; the warnings name a channel flow
+// length that differs from the sections' distances and stages above the
+// ends of a section; every boundary kind describes itself.
+func TestBackwaterOptions(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=2.5", subdivide.Uniform(0.035), 4, 200, 0.001)
+	secs[1].FlowLengths = subdivide.PerRegion{Channel: 260}
+	last := secs[3].Geometry.Bottom()
+	second := Boundary{Kind: KnownStage, Stage: last + 2.2}
+	res, err := ComputeBackwater(secs, []float64{5, 80}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{Second: &second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range res.Profiles {
+		if p.SecondStart != second.Stage || p.SecondCritical || p.Sections[3].SecondWaterSurface != second.Stage {
+			t.Errorf("Q %g: second start %g, want %g", p.Discharge, p.SecondStart, second.Stage)
+		}
+	}
+	if res.SecondBoundary != second.String() || res.Expansion != ExpandingEddyK || res.Contraction != ContractingEddyK {
+		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
+	}
+	all := strings.Join(res.Warnings, "\n")
+	for _, want := range []string{"channel flow length 260.0 m", "above an end of the section"} {
+		if !strings.Contains(all, want) {
+			t.Errorf("no warning with %q in %q", want, res.Warnings)
+		}
+	}
+	for _, tc := range []struct {
+		b    Boundary
+		want string
+	}{
+		{Boundary{Kind: NormalDepth, Slope: 0.002}, "normal depth at slope 0.002"},
+		{Boundary{Kind: CriticalDepth}, "critical depth"},
+		{Boundary{Kind: KnownStage, Stage: 101.5}, "stage 101.5"},
+		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 1}, {101, 9}}}, "stage-discharge rating of 2 points, 1 to 9"},
+		{Boundary{Kind: StageRating, StageOf: func(float64) (float64, error) { return 0, nil }}, "stage-discharge rating (function)"},
+	} {
+		if got := tc.b.String(); got != tc.want {
+			t.Errorf("%v: %q, want %q", tc.b.Kind, got, tc.want)
+		}
+	}
+}

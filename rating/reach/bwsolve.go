@@ -1,0 +1,633 @@
+package reach
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"wetline/rating"
+)
+
+// bwRun is a reach prepared for computing profiles.
+type bwRun struct {
+	secs   []Section
+	models []*bwModel
+	// flow[j] are the flow lengths from section j to j+1 (weighted[j]
+	// when given) and plain[j] the distance difference.
+	flow       [][3]float64
+	weighted   []bool
+	plain      []float64
+	b          Boundary
+	second     *Boundary
+	u          rating.Units
+	kExp, kCon float64
+	// warm[k][j] is the stage of profile k at section j for the previous
+	// discharge (NaN before the first).
+	warm [2][]float64
+	// crit[j] holds the critical crossings of section j for the current
+	// discharge once critDone[j].
+	crit     [][]bwCrossing
+	critDone []bool
+	// rows[k] holds profile k while it is computed; eq is the energy
+	// equation of the subreach being solved.
+	rows [2][]bwRow
+	eq   subreach
+	// Facts gathered for the summary warnings.
+	walls    []float64 // highest stage with walls added, per section (NaN: none)
+	pools    []int     // most pools counted, per section
+	warnings []string
+}
+
+// newBWRun validates the reach and prepares its sections.
+func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) {
+	if len(secs) < 2 {
+		return nil, ErrBackwaterSections
+	}
+	if err := b.validate(); err != nil {
+		return nil, err
+	}
+	if opt.Second != nil {
+		if err := opt.Second.validate(); err != nil {
+			return nil, fmt.Errorf("second boundary: %w", err)
+		}
+	}
+	r := &bwRun{secs: secs, b: b, second: opt.Second, u: opt.Units,
+		models: make([]*bwModel, len(secs)), flow: make([][3]float64, len(secs)-1),
+		weighted: make([]bool, len(secs)-1), plain: make([]float64, len(secs)-1),
+		crit: make([][]bwCrossing, len(secs)), critDone: make([]bool, len(secs)),
+		walls: make([]float64, len(secs)), pools: make([]int, len(secs))}
+	var err error
+	if r.kExp, r.kCon, err = opt.eddy(); err != nil {
+		return nil, err
+	}
+	for k := range r.warm {
+		r.rows[k] = make([]bwRow, len(secs))
+		r.warm[k] = make([]float64, len(secs))
+		for j := range r.warm[k] {
+			r.warm[k][j] = math.NaN()
+		}
+	}
+	for i, s := range secs {
+		if err := r.prepareSection(i, s, opt); err != nil {
+			return nil, err
+		}
+		r.walls[i] = math.NaN()
+	}
+	return r, nil
+}
+
+// prepareSection checks section i and builds its model and flow lengths.
+func (r *bwRun) prepareSection(i int, s Section, opt BackwaterOptions) error {
+	fail := func(field string, err error) error { return &SectionError{Index: i, ID: s.ID, Field: field, Err: err} }
+	if s.Geometry == nil {
+		return fail("geometry", errors.New("no geometry"))
+	}
+	if !finite(s.Distance) {
+		return fail("distance", errors.New("distance is not a finite number"))
+	}
+	if i > 0 && !(s.Distance > r.secs[i-1].Distance) {
+		return fail("distance", fmt.Errorf("%w: %g after %g", ErrDistances, s.Distance, r.secs[i-1].Distance))
+	}
+	closed, err := isClosed(s.Geometry, opt.Geometry)
+	if err != nil {
+		return fail("geometry", err)
+	}
+	if closed {
+		return fail("geometry", ErrClosedConduit)
+	}
+	if r.models[i], err = newBWModel(s.Geometry, opt.Geometry, opt.Units); err != nil {
+		return fail("geometry", err)
+	}
+	if i+1 == len(r.secs) {
+		return nil
+	}
+	dist := r.secs[i+1].Distance - s.Distance
+	r.plain[i] = dist
+	for _, l := range s.FlowLengths.Array() {
+		if !finite(l) || l < 0 {
+			return fail("flow_lengths", fmt.Errorf("%w: %v", ErrFlowLength, s.FlowLengths))
+		}
+		if l > 0 {
+			r.weighted[i] = true
+		}
+	}
+	if r.weighted[i] {
+		for k, l := range s.FlowLengths.Array() {
+			if l == 0 {
+				l = dist
+			}
+			r.flow[i][k] = l
+		}
+		if ch := s.FlowLengths.Channel; ch > 0 && math.Abs(ch-dist) > ChannelLengthMismatch*dist {
+			r.warnings = append(r.warnings, fmt.Sprintf(
+				"section %s: the channel flow length %.1f %s to the next section differs from the distance between them, %.1f %s; the flow lengths are used",
+				s.ID, ch, opt.Units.Length(), dist, opt.Units.Length()))
+		}
+	}
+	return nil
+}
+
+func (r *bwRun) secondWords() string {
+	if r.second != nil {
+		return r.second.String()
+	}
+	return fmt.Sprintf("critical depth (%.1f times the first start's depth where that is critical)", RaisedStartFactor)
+}
+
+// criticals returns the critical crossings of section j at discharge q.
+func (r *bwRun) criticals(j int, q float64) ([]bwCrossing, error) {
+	if r.critDone[j] {
+		return r.crit[j], nil
+	}
+	c, err := r.models[j].criticalCurve()
+	if err != nil {
+		return nil, err
+	}
+	if r.crit[j], err = c.crossings(q*q, r.crit[j]); err != nil {
+		return nil, fmt.Errorf("critical stage: %w", err)
+	}
+	if len(r.crit[j]) == 0 || !r.crit[j][0].rising {
+		return nil, fmt.Errorf("critical stage: %w", rating.ErrNoRoot)
+	}
+	r.critDone[j] = true
+	return r.crit[j], nil
+}
+
+// bwRow is one section of a profile being computed.
+type bwRow struct {
+	st             bwState
+	critical, jump bool
+	residual       float64
+	length, hf, he float64
+	expanding      bool
+	hv, energy     float64
+}
+
+// profile computes the two profiles of discharge q.
+func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
+	clear(r.critDone)
+	p := SurfaceProfile{Discharge: q}
+	n := len(r.secs)
+	s1, c1, err := r.start(r.b, q, &p.Warnings)
+	if err != nil {
+		return p, err
+	}
+	var s2 float64
+	var c2 bool
+	switch {
+	case r.second != nil:
+		var ignored []string
+		if s2, c2, err = r.start(*r.second, q, &ignored); err != nil {
+			return p, fmt.Errorf("second boundary: %w", err)
+		}
+	case c1:
+		s2 = r.models[n-1].bottom + RaisedStartFactor*(s1-r.models[n-1].bottom)
+	default:
+		if s2, err = r.criticalStart(q); err != nil {
+			return p, err
+		}
+		c2 = true
+	}
+	p.Start, p.StartCritical, p.SecondStart, p.SecondCritical = s1, c1, s2, c2
+	rows1, err := r.march(0, s1, c1, q)
+	if err != nil {
+		return p, err
+	}
+	rows2, err := r.march(1, s2, c2, q)
+	if err != nil {
+		return p, fmt.Errorf("second profile: %w", err)
+	}
+	p.Sections = make([]ProfileSection, n)
+	var crit []string
+	for j := range rows1 {
+		p.Sections[j] = r.section(j, q, &rows1[j], rows2[j].st.stage)
+		if rows1[j].critical && j < n-1 {
+			crit = append(crit, r.secs[j].ID)
+		}
+	}
+	if len(crit) > 0 {
+		p.Warnings = append(p.Warnings, fmt.Sprintf(
+			"no subcritical stage balances the energy equation at %s: the profile passes through critical depth there", strings.Join(crit, ", ")))
+	}
+	return p, nil
+}
+
+// section fills the reported values of section j.
+func (r *bwRun) section(j int, q float64, row *bwRow, second float64) ProfileSection {
+	s := r.secs[j]
+	st := &row.st
+	out := ProfileSection{ID: s.ID, Distance: s.Distance, Bottom: r.models[j].bottom,
+		WaterSurface: st.stage, VelocityHead: row.hv, EnergyGrade: st.stage + row.hv,
+		Froude: st.froude(q, r.u), Area: st.area, TopWidth: st.width, Conveyance: st.k, Alpha: st.alpha(),
+		Critical: row.critical, SecondWaterSurface: second, Spread: math.Abs(st.stage - second),
+		Length: row.length, FrictionLoss: row.hf, EddyLoss: row.he, Expanding: row.expanding,
+		Residual: row.residual, Jump: row.jump}
+	if st.walls && !(r.walls[j] >= st.stage) {
+		r.walls[j] = st.stage
+	}
+	r.pools[j] = max(r.pools[j], st.pools)
+	return out
+}
+
+// start returns the stage of boundary b at discharge q at the last
+// section and whether it is critical depth; a stage in supercritical flow
+// is replaced by critical depth, with a warning.
+func (r *bwRun) start(b Boundary, q float64, warns *[]string) (float64, bool, error) {
+	n := len(r.secs)
+	m := r.models[n-1]
+	var h float64
+	var err error
+	switch b.Kind {
+	case CriticalDepth:
+		h, err = r.criticalStart(q)
+		return h, true, err
+	case NormalDepth:
+		h, err = r.normalStage(q, b.Slope)
+	case KnownStage:
+		h = b.Stage
+	case StageRating:
+		h, err = b.ratingStage(q)
+	}
+	if err != nil {
+		return h, false, err
+	}
+	if !(h > m.bottom) {
+		return h, false, fmt.Errorf("%w: stage %g at section %s is not above its lowest ground %g", ErrBoundary, h, r.secs[n-1].ID, m.bottom)
+	}
+	var st bwState
+	if err := m.state(h, &st); err != nil {
+		return h, false, &SectionError{Index: n - 1, ID: r.secs[n-1].ID, Field: "geometry", Err: err}
+	}
+	if st.froude(q, r.u) > 1 {
+		c, err := r.criticalStart(q)
+		if err != nil {
+			return h, false, err
+		}
+		*warns = append(*warns, fmt.Sprintf("the boundary stage %.3f %s (%s) is below critical depth at %s: the profile starts at critical depth, %.3f %s",
+			h, r.u.Length(), b.Kind, r.secs[n-1].ID, c, r.u.Length()))
+		return c, true, nil
+	}
+	return h, false, nil
+}
+
+// normalStage returns the highest normal stage of q at slope s in the last
+// section.
+func (r *bwRun) normalStage(q, s float64) (float64, error) {
+	n := len(r.secs)
+	c, err := r.models[n-1].conveyanceCurve()
+	if err != nil {
+		return 0, err
+	}
+	cr, err := c.crossings(q/math.Sqrt(s), nil)
+	if err == nil && len(cr) == 0 {
+		err = rating.ErrNoRoot
+	}
+	if err != nil {
+		return 0, fmt.Errorf("%w: normal depth of %g at slope %g in section %s: %w", ErrBoundary, q, s, r.secs[n-1].ID, err)
+	}
+	return cr[len(cr)-1].h, nil
+}
+
+// criticalStart returns the critical stage of q at the last section with
+// the least specific energy (the control, where there are several).
+func (r *bwRun) criticalStart(q float64) (float64, error) {
+	n := len(r.secs)
+	cr, err := r.criticals(n-1, q)
+	if err != nil {
+		return 0, &SectionError{Index: n - 1, ID: r.secs[n-1].ID, Field: "geometry", Err: err}
+	}
+	m := r.models[n-1]
+	best, bestE := math.NaN(), math.Inf(1)
+	var st bwState
+	for _, c := range cr {
+		if !c.rising {
+			continue
+		}
+		if err := m.state(c.h, &st); err != nil {
+			return 0, err
+		}
+		if e := c.h - m.bottom + st.c*q*q/(2*r.u.Gravity()); e < bestE {
+			best, bestE = c.h, e
+		}
+	}
+	return best, nil
+}
+
+// march computes profile k from start stage h at the last section,
+// returning each section's row, upstream first.
+func (r *bwRun) march(k int, h float64, critical bool, q float64) ([]bwRow, error) {
+	n := len(r.secs)
+	rows := r.rows[k]
+	last := &rows[n-1]
+	m := r.models[n-1]
+	band := m.band(h)
+	if critical {
+		band = bandAbove(m, h) // as finishRow reports a critical stage
+	}
+	if err := m.stateIn(band, h, &last.st); err != nil {
+		return nil, &SectionError{Index: n - 1, ID: r.secs[n-1].ID, Field: "geometry", Err: err}
+	}
+	last.critical = critical
+	r.setHead(last, q)
+	for j := n - 2; j >= 0; j-- {
+		if err := r.solveUp(k, j, q, &rows[j], &rows[j+1]); err != nil {
+			return nil, &SectionError{Index: j, ID: r.secs[j].ID, Field: "geometry", Err: err}
+		}
+	}
+	for j := range rows {
+		r.warm[k][j] = rows[j].st.stage
+	}
+	return rows, nil
+}
+
+func (r *bwRun) setHead(row *bwRow, q float64) {
+	row.hv = row.st.c * q * q / (2 * r.u.Gravity())
+	row.energy = row.st.stage + row.hv
+}
+
+// subreach holds the energy equation of one subreach at one discharge.
+type subreach struct {
+	r   *bwRun
+	j   int
+	q   float64
+	q2g float64 // Q²/(2g)
+	dn  *bwRow
+	st  bwState // the upstream state last evaluated
+}
+
+// residual evaluates the energy equation at upstream stage h: the
+// upstream energy minus the downstream energy and the losses. It is −Inf
+// where the section is dry.
+func (e *subreach) residual(h float64, band int) (float64, error) {
+	m := e.r.models[e.j]
+	if band < 0 {
+		band = m.band(h)
+	}
+	if err := m.stateIn(band, h, &e.st); err != nil {
+		return 0, err
+	}
+	if !e.st.wet() {
+		return math.Inf(-1), nil
+	}
+	f, _, _, _, _ := e.balance(&e.st)
+	return f, nil
+}
+
+// balance returns the residual and the length, friction loss, eddy loss
+// and flow direction of the subreach with upstream state st.
+func (e *subreach) balance(st *bwState) (f, l, hf, he float64, expanding bool) {
+	d := &e.dn.st
+	hvu, hvd := st.c*e.q2g, d.c*e.q2g
+	l = e.r.plain[e.j]
+	if e.r.weighted[e.j] {
+		l = weightedLength(e.r.flow[e.j], st.kr, d.kr)
+	}
+	hf = l * e.q * e.q / (st.k * d.k)
+	expanding = hvu > hvd
+	k := e.r.kCon
+	if expanding {
+		k = e.r.kExp
+	}
+	he = k * math.Abs(hvu-hvd)
+	return st.stage + hvu - (d.stage + hvd + hf + he), l, hf, he, expanding
+}
+
+// solveUp finds the stage of section j in profile k given the row of the
+// section downstream.
+func (r *bwRun) solveUp(k, j int, q float64, row, dn *bwRow) error {
+	cr, err := r.criticals(j, q)
+	if err != nil {
+		return err
+	}
+	e := &r.eq
+	*e = subreach{r: r, j: j, q: q, q2g: q * q / (2 * r.u.Gravity()), dn: dn}
+	m := r.models[j]
+	// Subcritical bands, highest first: each from a rising crossing to the
+	// next crossing (or without end).
+	for i := len(cr) - 1; i >= 0; i-- {
+		if !cr[i].rising {
+			continue
+		}
+		lo, hi := cr[i].h, math.Inf(1)
+		if i+1 < len(cr) {
+			hi = cr[i+1].h
+		}
+		h, ok, err := r.rootInBand(k, j, e, lo, hi)
+		if err != nil {
+			return err
+		}
+		if ok {
+			band := -1
+			if h == lo {
+				band = bandAbove(m, lo)
+			}
+			return r.finishRow(m, e, h, band, false, row)
+		}
+	}
+	// No subcritical root: the flow passes through critical depth. Of the
+	// critical stages at which the upstream energy covers the energy and
+	// losses downstream (residual ≥ 0; the highest always does, or its
+	// band would hold a root), the one with the least excess.
+	best, bestF := math.NaN(), math.Inf(1)
+	for _, c := range cr {
+		if !c.rising {
+			continue
+		}
+		f, err := e.residual(c.h, bandAbove(m, c.h))
+		if err != nil {
+			return err
+		}
+		if f >= 0 && f < bestF {
+			best, bestF = c.h, f
+		}
+	}
+	if math.IsNaN(best) {
+		return fmt.Errorf("%w: no critical stage", ErrNoBackwaterFit)
+	}
+	return r.finishRow(m, e, best, bandAbove(m, best), true, row)
+}
+
+// bandAbove returns the band just above stage h (the subcritical side of
+// a critical stage lying at a jump).
+func bandAbove(m *bwModel, h float64) int {
+	j := m.band(h)
+	if j >= 0 && j+1 < len(m.bands) && m.bands[j].hi == h {
+		return j + 1
+	}
+	return j
+}
+
+// finishRow sets row to section j's state at stage h, computed with band
+// (-1: the band of h). A critical stage lying where the geometry jumps
+// (ground level at the stage) is reported with the state just above, on
+// its subcritical side.
+func (r *bwRun) finishRow(m *bwModel, e *subreach, h float64, band int, critical bool, row *bwRow) error {
+	if band < 0 {
+		band = m.band(h)
+	}
+	if err := m.stateIn(band, h, &row.st); err != nil {
+		return err
+	}
+	row.critical = critical
+	row.residual, row.length, row.hf, row.he, row.expanding = e.balance(&row.st)
+	r.setHead(row, e.q)
+	if !critical {
+		spec := row.st.stage - m.bottom + row.hv
+		row.jump = math.Abs(row.residual) > BalanceTolerance*spec
+	}
+	return nil
+}
+
+// rootInBand finds the root of the energy equation of subreach e in the
+// subcritical band (lo, hi), reporting whether there is one.
+func (r *bwRun) rootInBand(k, j int, e *subreach, lo, hi float64) (float64, bool, error) {
+	m := r.models[j]
+	flo, err := e.residual(lo, bandAbove(m, lo))
+	if err != nil || flo > 0 {
+		return 0, false, err
+	}
+	if flo == 0 {
+		return lo, true, nil
+	}
+	tol := func(h float64) float64 { return bwStageTol(h - m.bottom) }
+	f := func(h float64) (float64, error) { return e.residual(h, -1) }
+	if !math.IsInf(hi, 1) {
+		fhi, err := f(hi)
+		if err != nil || fhi < 0 {
+			return 0, false, err
+		}
+		h, err := brentRoot(f, lo, hi, flo, fhi, tol(hi))
+		return h, err == nil, err
+	}
+	// Unbounded band: bracket upwards from a warm guess.
+	guess, step := r.guess(k, j, e.dn.st.stage, lo)
+	fg, err := f(guess)
+	if err != nil {
+		return 0, false, err
+	}
+	for i := 0; fg < 0; i++ {
+		if i == MaxCurveDoublings {
+			return 0, false, fmt.Errorf("%w: no stage up to %g", ErrNoBackwaterFit, guess)
+		}
+		lo, flo = guess, fg
+		guess += step
+		step *= 2
+		if fg, err = f(guess); err != nil {
+			return 0, false, err
+		}
+	}
+	h, err := brentRoot(f, lo, guess, flo, fg, tol(guess))
+	return h, err == nil, err
+}
+
+// WarmStep is the least first step, as a fraction of the depth at the
+// downstream section, by which a trial stage is raised while the energy
+// equation is bracketed.
+const WarmStep = 0.01
+
+// guess returns a first trial stage above lo for section j of profile k,
+// whose downstream section stands at hd, and the step by which to raise
+// it: the previous discharge's stage moved as much as the stage
+// downstream moved, or the downstream depth carried up.
+func (r *bwRun) guess(k, j int, hd, lo float64) (guess, step float64) {
+	m, md := r.models[j], r.models[j+1]
+	depth := math.Max(hd-md.bottom, 0)
+	step = WarmStep * math.Max(depth, minDepthScale)
+	prev, prevD := r.warm[k][j], r.warm[k][j+1]
+	if finite(prev) && finite(prevD) {
+		guess = prev + (hd - prevD)
+		step = math.Max(step, math.Abs(hd-prevD))
+	} else {
+		guess = math.Max(m.bottom+depth, hd)
+	}
+	if !(guess > lo) {
+		guess = lo + step
+	}
+	return guess, step
+}
+
+// rating reads the stage of every profile at section at; a read whose
+// spread exceeds tol is unsettled.
+func (r *bwRun) rating(ps []SurfaceProfile, at int, tol float64) BackwaterRating {
+	rt := BackwaterRating{Section: r.secs[at].ID, Index: at, Tolerance: tol,
+		Rows: make([]RatingRead, len(ps)), Geometry: r.secs[at].Geometry,
+		GeometryOptions: r.models[at].gopt, Units: r.u}
+	for i, p := range ps {
+		s := p.Sections[at]
+		rt.Rows[i] = RatingRead{Discharge: p.Discharge, Stage: s.WaterSurface, Spread: s.Spread,
+			Critical: s.Critical, Unsettled: s.Spread > tol}
+	}
+	return rt
+}
+
+// summary returns the warnings about the whole computation.
+func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
+	var out []string
+	u := r.u
+	for j, s := range r.secs {
+		if h := r.walls[j]; finite(h) {
+			out = append(out, fmt.Sprintf("section %s: stages up to %.3f %s are above an end of the section: a vertical wall was added there",
+				s.ID, h, u.Length()))
+		}
+		if r.pools[j] > 1 && !r.models[j].gopt.Connected {
+			out = append(out, fmt.Sprintf("section %s: the water stands in up to %d separate pools; all are counted", s.ID, r.pools[j]))
+		}
+	}
+	crit, starts, jumps, worst := 0, 0, 0, 0.0
+	for _, p := range ps {
+		for _, s := range p.Sections {
+			if s.Jump {
+				jumps++
+				worst = math.Max(worst, math.Abs(s.Residual))
+			}
+		}
+		for _, s := range p.Sections[:len(p.Sections)-1] {
+			if s.Critical {
+				crit++
+				break
+			}
+		}
+		if p.StartCritical && r.b.Kind != CriticalDepth {
+			starts++
+		}
+	}
+	if crit > 0 {
+		out = append(out, fmt.Sprintf("at %d of %d discharges the profile passes through critical depth (see the sections marked critical): "+
+			"the computed stages there are critical depth, not a subcritical profile", crit, len(ps)))
+	}
+	if jumps > 0 {
+		out = append(out, fmt.Sprintf("at %d section stage(s) (marked jump) the hydraulics jump at the computed stage "+
+			"(a pocket joins the flow or level ground is wetted all at once): the energy equation balances there only to %.2g %s",
+			jumps, worst, u.Length()))
+	}
+	if starts > 0 {
+		out = append(out, fmt.Sprintf("at %d of %d discharges the boundary stage is below critical depth: those profiles start at critical depth", starts, len(ps)))
+	}
+	if w := unsettledWarning(rt, u); w != "" {
+		out = append(out, w)
+	}
+	return out
+}
+
+// unsettledWarning words the warning for rating reads whose two profiles
+// still differ, or returns "".
+func unsettledWarning(rt BackwaterRating, u rating.Units) string {
+	n, worst := 0, 0.0
+	qlo, qhi := math.Inf(1), math.Inf(-1)
+	for _, row := range rt.Rows {
+		if !row.Unsettled {
+			continue
+		}
+		n++
+		worst = math.Max(worst, row.Spread)
+		qlo, qhi = math.Min(qlo, row.Discharge), math.Max(qhi, row.Discharge)
+	}
+	if n == 0 {
+		return ""
+	}
+	return fmt.Sprintf("at %d of %d discharges (%.4g to %.4g %s) the profiles from the two boundary stages still differ at %s "+
+		"by more than %g %s (at most %.3f %s): the reach is too short for the boundary to be forgotten there; "+
+		"those rating stages depend on the boundary", n, len(rt.Rows), qlo, qhi, u.Discharge(), rt.Section,
+		rt.Tolerance, u.Length(), worst, u.Length())
+}
