@@ -19,6 +19,9 @@ const (
 	// of ln S with stage: without a significant trend S is taken as
 	// constant (it usually levels off at high stages; Kennedy, 1984).
 	SlopeTrendLevel = 0.05
+	// slopeFlat is the change of ln S over the upper gaugings below which
+	// S is constant whatever the test says (round-off of exact data).
+	slopeFlat = 1e-9
 )
 
 // SlopePoint is one gauging's effective friction slope.
@@ -51,7 +54,8 @@ type ConveyanceSlope struct {
 	LogSlope, Trend, Centre float64
 	LogSlopeSE, TrendSE     float64
 	// TrendP is the two-sided p-value of the t test of the trend (NaN
-	// with fewer than ConveyanceSlopeMin points).
+	// when ln S changes by less than slopeFlat over the points: S is then
+	// taken as constant).
 	TrendP float64
 	// ScatterLog is the weighted standard deviation of ln S_i about the fit.
 	ScatterLog float64
@@ -123,12 +127,16 @@ func FitConveyanceSlope(c rating.HydraulicCurve, stages, discharges, weights []f
 		ss += w[i] * r * r
 	}
 	s2 := ss / float64(n-2)
-	if sxx > 0 && s2 > 0 {
+	span := x[n-1] - x[0]
+	switch {
+	case math.Abs(trend)*span <= slopeFlat:
+		// No change of ln S over the points worth the name: constant.
+	case s2 > 0:
 		se := math.Sqrt(s2 / sxx)
 		tt := trend / se
 		s.TrendP = 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Survival(math.Abs(tt))
-	} else if sxx > 0 {
-		s.TrendP = 0
+	default:
+		s.TrendP = 0 // an exact line
 	}
 	df := n - 2
 	if !(s.TrendP < SlopeTrendLevel) {

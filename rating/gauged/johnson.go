@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -59,10 +60,16 @@ type JohnsonEstimate struct {
 // drawn through (a quadratic and a residual).
 const johnsonMin = 4
 
+// johnsonLocalFraction is the share of the gaugings (at least johnsonMin)
+// each local quadratic of johnsonFromData is drawn through.
+const johnsonLocalFraction = 1.0 / 3
+
 // johnsonFromData applies JohnsonZeroFlow to the gaugings with stage below
-// top: the curve drawn through them is a weighted least-squares quadratic
-// of gauge height in ln Q (standing in for the hand-drawn curve of the
-// method), Q₁ and Q₃ are the least and largest discharges among them.
+// top. Q₁ and Q₃ are the least and largest discharges among them; the
+// curve drawn through them (standing in for the hand-drawn curve of the
+// method) is read at ln Q₁, ln Q₂ and ln Q₃ by a weighted least-squares
+// quadratic of gauge height in ln Q through the gaugings nearest each in
+// ln Q (johnsonLocalFraction of them, at least johnsonMin).
 func johnsonFromData(d *data, top float64) JohnsonEstimate {
 	est := JohnsonEstimate{ZeroFlow: math.NaN(), Q1: math.NaN(), Q2: math.NaN(), Q3: math.NaN(), G1: math.NaN(), G2: math.NaN(), G3: math.NaN()}
 	var x, h, w []float64
@@ -79,19 +86,23 @@ func johnsonFromData(d *data, top float64) JohnsonEstimate {
 	for _, v := range x {
 		lo, hi = math.Min(lo, v), math.Max(hi, v)
 	}
-	mid := 0.5 * (lo + hi)
-	u := make([]float64, len(x))
-	for i, v := range x {
-		u[i] = v - mid // centred, for the conditioning of the fit
-	}
-	coef, ok := quadratic(u, h, w)
-	if !ok || !(hi > lo) {
-		est.Note = "the gaugings of the first control do not determine a curve"
+	if !(hi > lo) {
+		est.Note = "the gaugings of the first control all have one discharge"
 		return est
 	}
-	at := func(v float64) float64 { v -= mid; return coef[0] + coef[1]*v + coef[2]*v*v }
+	k := max(johnsonMin, int(math.Ceil(johnsonLocalFraction*float64(len(x)))))
+	mid := 0.5 * (lo + hi)
+	var g [3]float64
+	for i, at := range []float64{lo, mid, hi} {
+		v, ok := localQuadratic(x, h, w, at, k)
+		if !ok {
+			est.Note = "the gaugings of the first control do not determine a curve"
+			return est
+		}
+		g[i] = v
+	}
 	est.Q1, est.Q2, est.Q3 = math.Exp(lo), math.Exp(mid), math.Exp(hi)
-	est.G1, est.G2, est.G3 = at(lo), at(mid), at(hi)
+	est.G1, est.G2, est.G3 = g[0], g[1], g[2]
 	e, err := JohnsonZeroFlow(est.G1, est.G2, est.G3)
 	if err != nil {
 		est.Note = err.Error()
@@ -101,21 +112,29 @@ func johnsonFromData(d *data, top float64) JohnsonEstimate {
 	return est
 }
 
-// quadratic fits v = c₀ + c₁·x + c₂·x² by weighted least squares (QR).
-func quadratic(x, v, w []float64) ([]float64, bool) {
-	n := len(x)
+// localQuadratic evaluates at x₀ the weighted least-squares quadratic of
+// v in x through the k points nearest x₀ in x.
+func localQuadratic(x, v, w []float64, x0 float64, k int) (float64, bool) {
+	idx := make([]int, len(x))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return math.Abs(x[idx[a]]-x0) < math.Abs(x[idx[b]]-x0) })
+	idx = idx[:min(k, len(idx))]
+	n := len(idx)
 	a := mat.NewDense(n, 3, nil)
 	b := mat.NewVecDense(n, nil)
-	for i := range x {
+	for r, i := range idx {
 		s := math.Sqrt(w[i])
-		a.Set(i, 0, s)
-		a.Set(i, 1, s*x[i])
-		a.Set(i, 2, s*x[i]*x[i])
-		b.SetVec(i, s*v[i])
+		u := x[i] - x0 // centred at x₀: the value is the intercept
+		a.Set(r, 0, s)
+		a.Set(r, 1, s*u)
+		a.Set(r, 2, s*u*u)
+		b.SetVec(r, s*v[i])
 	}
 	var c mat.VecDense
 	if err := c.SolveVec(a, b); err != nil {
-		return nil, false
+		return 0, false
 	}
-	return c.RawVector().Data, true
+	return c.AtVec(0), true
 }

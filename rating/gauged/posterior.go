@@ -234,8 +234,10 @@ func (b *bayesProblem) controlsFromPosterior(r Rating, p *Posterior) []FittedCon
 // PosteriorBand returns, at gauge height h, the 95 % parametric band (the
 // 2.5 and 97.5 % quantiles of Q(h; θ) over the posterior draws) and the
 // 95 % total band (the same draws with the remnant error added,
-// Q(h; θ)·exp(σ_r·ε), ε standard normal, seeded). NaN when the fit is not
-// Bayesian.
+// Q(h; θ)·exp(σ_r·ε), ε standard normal, seeded), never narrower than
+// the parametric band (where the remnant is small beside the spread of
+// the relation, Monte Carlo error could make it so). NaN when the fit is
+// not Bayesian.
 func (f *ControlFit) PosteriorBand(h float64) (pLo, pHi, tLo, tHi float64) {
 	nan := math.NaN()
 	if f.Posterior == nil || len(f.Posterior.band) == 0 {
@@ -251,6 +253,7 @@ func (f *ControlFit) PosteriorBand(h float64) (pLo, pHi, tLo, tHi float64) {
 	sort.Float64s(q)
 	sort.Float64s(t)
 	lo, hi := 0.5-FitBandLevel/2, 0.5+FitBandLevel/2
-	return stat.Quantile(lo, stat.Empirical, q, nil), stat.Quantile(hi, stat.Empirical, q, nil),
-		stat.Quantile(lo, stat.Empirical, t, nil), stat.Quantile(hi, stat.Empirical, t, nil)
+	pLo, pHi = stat.Quantile(lo, stat.Empirical, q, nil), stat.Quantile(hi, stat.Empirical, q, nil)
+	tLo, tHi = stat.Quantile(lo, stat.Empirical, t, nil), stat.Quantile(hi, stat.Empirical, t, nil)
+	return pLo, pHi, math.Min(tLo, pLo), math.Max(tHi, pHi)
 }
