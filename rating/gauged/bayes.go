@@ -37,6 +37,17 @@ const (
 	// modeGap is how far, in log posterior, a local mode may lie below
 	// the best one and still start a chain.
 	modeGap = 4.0
+	// startOffsetFraction places a start's first offset this fraction of
+	// the gauged span below the lowest gauging when its prior gives none.
+	startOffsetFraction = 0.1
+	// hessianStep is the central-difference step of the Laplace Hessian,
+	// in parameter scales; hessianWall stands for −log posterior where it
+	// is infinite (a finite wall keeps the differences finite).
+	hessianStep, hessianWall = 1e-4, 1e300
+	// fallbackSpread is the standard deviation, in parameter scales, of
+	// the proposal used when the Laplace covariance is not positive
+	// definite.
+	fallbackSpread = 0.1
 )
 
 // BayesOptions configure a Bayesian fit of a rating of controls. The zero
@@ -195,13 +206,11 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
 		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
 	}
-	var lsq *lsqProblem
 	var lsqStarts [][]float64
 	var lsqFull []float64
 	if p, _, _, err := newLSQProblem(gs, opt.ControlOptions); err == nil {
-		lsq = p
 		lsqStarts = p.starts()
-		if x, _, err := p.solve(); err == nil {
+		if x, _, err := p.solveFrom(lsqStarts); err == nil {
 			lsqFull = p.m.full(x)
 		}
 	}
@@ -222,10 +231,15 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 			f.OffsetSource = "given"
 		}
 	}
-	_ = lsq
 	f.Params = len(b.m.free)
 	r, _ := b.m.rating(b.m.full(f.x))
 	f.Rating = r
+	np := f.Params
+	if !b.priors[b.m.iRemnant()].fixed {
+		np-- // the remnant is not a parameter of the rating
+	}
+	f.StandardErrorLog = b.modeScatter(f.Rating, np)
+	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
 	post := b.sample(modes, f.scale)
 	f.Posterior = post
 	f.Controls = b.controlsFromPosterior(r, post)
@@ -244,6 +258,22 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		}
 	}
 	return f, nil
+}
+
+// modeScatter is the weighted standard error of estimate of rating r, as
+// for least squares: √(Σwᵢrᵢ²/(n − p)) with weights normalised to mean 1
+// (NaN when n ≤ p).
+func (b *bayesProblem) modeScatter(r Rating, p int) float64 {
+	d := b.d
+	if d.n() <= p {
+		return math.NaN()
+	}
+	var ss float64
+	for i, h := range d.h {
+		e := d.y[i] - logQ(r, h)
+		ss += d.w[i] * e * e
+	}
+	return math.Sqrt(ss / float64(d.n()-p))
 }
 
 // check validates and defaults the options in place.
@@ -275,6 +305,13 @@ func (o *BayesOptions) check() error {
 		return fmt.Errorf("%w: fixed remnant %g", ErrBayesOptions, o.Remnant)
 	case !(o.NCV >= 0) || !(o.SlopeCV >= 0) || !(o.CrestCV >= 0):
 		return fmt.Errorf("%w: coefficients of variation %g, %g, %g", ErrBayesOptions, o.NCV, o.SlopeCV, o.CrestCV)
+	}
+	for k, cp := range o.Priors {
+		for _, pp := range []ParamPrior{cp.LogCoefficient, cp.Exponent, cp.Offset, cp.Break} {
+			if pp.given() && (!finite(pp.Mean) || !(pp.SD >= 0)) {
+				return fmt.Errorf("%w: control %d has a prior of mean %g and standard deviation %g", ErrBayesOptions, k+1, pp.Mean, pp.SD)
+			}
+		}
 	}
 	return nil
 }
@@ -583,9 +620,9 @@ func (b *bayesProblem) priorStart() ([]float64, bool) {
 			full[i] = 0.5 * (p.lo + p.hi)
 		}
 	}
-	span := math.Max(d.hi-d.lo, 1e-6)
+	span := math.Max(d.hi-d.lo, minSpan)
 	if ib := m.iB(); !finite(full[ib]) || !(full[ib] < d.lo) {
-		full[ib] = d.lo - 0.1*span
+		full[ib] = d.lo - startOffsetFraction*span
 	}
 	for j := 1; j < k; j++ {
 		if i := m.iBreak(j); !finite(full[i]) {
@@ -625,7 +662,7 @@ func (b *bayesProblem) priorStart() ([]float64, bool) {
 
 // laplace returns the covariance of the normal approximation at mode x:
 // the inverse Hessian of −log posterior by central differences (in scaled
-// coordinates), or a diagonal of a tenth of the scales when that is not
+// coordinates), or diagonal with fallbackSpread scales when that is not
 // positive definite.
 func (b *bayesProblem) laplace(x, scale []float64) *mat.SymDense {
 	d := len(x)
@@ -640,12 +677,12 @@ func (b *bayesProblem) laplace(x, scale []float64) *mat.SymDense {
 		}
 		v := -b.logPost(xs)
 		if math.IsInf(v, 1) {
-			return math.MaxFloat64 / 1e10
+			return hessianWall
 		}
 		return v
 	}
 	var h mat.SymDense
-	fd.Hessian(&h, f, z, &fd.Settings{Formula: fd.Central, Step: 1e-4})
+	fd.Hessian(&h, f, z, &fd.Settings{Formula: fd.Central, Step: hessianStep})
 	var ch mat.Cholesky
 	if ch.Factorize(&h) {
 		var inv mat.SymDense
@@ -664,7 +701,7 @@ func (b *bayesProblem) laplace(x, scale []float64) *mat.SymDense {
 			}
 		}
 	}
-	return diagonal(scale, 0.1)
+	return diagonal(scale, fallbackSpread)
 }
 
 // sample runs the chains from the modes and summarises the posterior.

@@ -12,7 +12,7 @@ import (
 // ErrJohnson is returned when Johnson's method has no answer: stages not
 // strictly rising, or three points on a straight line in stage (G₁ + G₃ =
 // 2·G₂, no curvature to measure).
-var ErrJohnson = errors.New("Johnson's three-point method has no answer for these stages")
+var ErrJohnson = errors.New("no answer from Johnson's three-point method for these stages")
 
 // johnsonFlat is the relative size of G₁ + G₃ − 2·G₂ (against G₃ − G₁)
 // below which the three points are taken to lie on a straight line.

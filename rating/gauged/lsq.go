@@ -135,8 +135,9 @@ type ControlFit struct {
 	// BreaksFixed reports breakpoints that were given.
 	BreaksFixed bool
 	// StandardErrorLog is the weighted standard error of estimate s in
-	// ln Q, √(Σwᵢrᵢ²/(n − p)) with weights normalised to mean 1;
-	// StandardErrorPercent is 100·sinh(s).
+	// ln Q, √(Σwᵢrᵢ²/(n − p)) with weights normalised to mean 1, p the
+	// rating's fitted parameters (Bayesian: at the posterior mode; NaN
+	// when n ≤ p); StandardErrorPercent is 100·sinh(s).
 	StandardErrorLog, StandardErrorPercent float64
 	// N is the number of gaugings fitted, Params the number of parameters
 	// moved by the fit.
@@ -178,6 +179,15 @@ const (
 	// offsetDecades spans the trial offsets below the lowest stage of a
 	// control: 10^−4 to 10^2 stage spans.
 	offsetLowDecade, offsetHighDecade = -4.0, 2.0
+	// minSpanFraction floors the scale of stages at this fraction of the
+	// largest stage magnitude (gaugings bunched at one stage).
+	minSpanFraction = 0.01
+	// minSpan floors a stage span or depth (length unit) where a
+	// logarithm or a division needs it positive.
+	minSpan = 1e-6
+	// addStartShare is the share of the rating below that an added control
+	// starts from at the highest gauging when its gaugings say nothing.
+	addStartShare = 0.01
 )
 
 // breakCandidates bounds the trial breakpoints per break, by number of controls.
@@ -225,7 +235,7 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	if err != nil {
 		return nil, err
 	}
-	x, ssr, err := p.solve()
+	x, ssr, err := p.solveFrom(p.starts())
 	if err != nil {
 		return nil, err
 	}
@@ -304,7 +314,7 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 // gauged stage span (at least 1 % of the largest stage magnitude) for
 // offsets and breakpoints.
 func scales(m *model, d *data) []float64 {
-	span := math.Max(d.hi-d.lo, 0.01*math.Max(math.Abs(d.hi), math.Abs(d.lo)))
+	span := math.Max(d.hi-d.lo, minSpanFraction*math.Max(math.Abs(d.hi), math.Abs(d.lo)))
 	if !(span > 0) {
 		span = 1
 	}
@@ -359,9 +369,8 @@ func (p *lsqProblem) residuals(x []float64) []float64 {
 	return out
 }
 
-// solve finds the least-squares parameters from the best starts.
-func (p *lsqProblem) solve() ([]float64, float64, error) {
-	starts := p.starts()
+// solveFrom finds the least-squares parameters from starts (full vectors).
+func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
 	if len(starts) == 0 {
 		return nil, 0, fmt.Errorf("%w: no admissible start (check the breakpoints and the spread of stages)", ErrFewGaugings)
 	}
@@ -495,7 +504,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, bool) {
 		}
 		return lo, hi
 	}
-	span := math.Max(d.hi-d.lo, 1e-6)
+	span := math.Max(d.hi-d.lo, minSpan)
 	lo0, hi0 := edge(0)
 	h0, y0, w0 := d.slice(lo0, hi0)
 	if len(h0) < 2 {
@@ -637,8 +646,8 @@ const addStartExponent = 5.0 / 3
 // addStart fits an added control to what the gaugings above its
 // breakpoint carry beyond the rating below: ln(Q − Q_below) = ln A +
 // C·ln(h − κ) on the gaugings where that excess is positive; with fewer
-// than two, C = 5/3 and A a hundredth of the rating below at the highest
-// of them.
+// than two, C = 5/3 and A giving addStartShare of the rating below at the
+// highest of them.
 func addStart(below Rating, j int, kappa float64, h, y, w []float64) (lnA, c float64) {
 	var hs, ys, ws []float64
 	for i := range h {
@@ -653,8 +662,8 @@ func addStart(below Rating, j int, kappa float64, h, y, w []float64) (lnA, c flo
 	}
 	top := h[len(h)-1]
 	c = addStartExponent
-	q := 0.01 * below.upTo(j, top)
-	return math.Log(q) - c*math.Log(math.Max(top-kappa, 1e-6)), c
+	q := addStartShare * below.upTo(j, top)
+	return math.Log(q) - c*math.Log(math.Max(top-kappa, minSpan)), c
 }
 
 // finishLSQ fills the least-squares statistics: s, covariance, standard

@@ -38,6 +38,9 @@ const (
 	// startSpread scales the Laplace standard deviations of the
 	// overdispersed starts of the chains.
 	startSpread = 2.0
+	// stuckSpread is the standard deviation, in parameter scales, of the
+	// proposal when the adapted one is not positive definite.
+	stuckSpread = 1e-4
 )
 
 // logTarget adapts a log density to distmv.LogProber.
@@ -173,7 +176,7 @@ func runChain(target logTarget, c chainSpec, scale []float64) chainResult {
 	}
 	prop, ok := newWalk(cov, rnd)
 	if !ok {
-		prop, _ = newWalk(diagonal(scale, 1e-4), rnd)
+		prop, _ = newWalk(diagonal(scale, stuckSpread), rnd)
 	}
 	draws, acc, _ := sampleChunks(target, prop, c.src, cur, c.draws)
 	return chainResult{draws: draws, acceptance: float64(acc) / float64(c.draws)}

@@ -101,18 +101,3 @@ func logQ(r Rating, h float64) float64 {
 	}
 	return math.Log(r.upTo(j, h))
 }
-
-// paramsOf returns the full vector of a rating (remnant ln σ_r = 0).
-func (m *model) paramsOf(r Rating) []float64 {
-	p := make([]float64, m.fullLen())
-	for j, c := range r.Controls {
-		p[m.iLnA(j)] = math.Log(c.A)
-		p[m.iC(j)] = c.C
-		if j == 0 {
-			p[m.iB()] = c.B
-		} else {
-			p[m.iBreak(j)] = c.From
-		}
-	}
-	return p
-}

@@ -19,8 +19,8 @@ const (
 	lmRelTol = 1e-14
 	// lmStall is the number of steps without progress that ends it.
 	lmStall = 3
-	// lmLambda0, lmLambdaMax: starting and largest damping.
-	lmLambda0, lmLambdaMax = 1e-3, 1e12
+	// lmLambda0, lmLambdaMin, lmLambdaMax: starting, least and largest damping.
+	lmLambda0, lmLambdaMin, lmLambdaMax = 1e-3, 1e-12, 1e12
 	// nmSimplex is the Nelder–Mead starting simplex size in scaled units.
 	nmSimplex = 0.05
 	// nmRelTol and nmStall end a Nelder–Mead search: the relative change
@@ -143,7 +143,7 @@ func levenberg(res func([]float64) []float64, x0, scale []float64) ([]float64, f
 					stall = 0
 				}
 				x, r, f = xt, rt, ft
-				lambda = math.Max(lambda/10, 1e-12)
+				lambda = math.Max(lambda/10, lmLambdaMin)
 				improved = true
 				break
 			}
