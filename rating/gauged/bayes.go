@@ -218,6 +218,9 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if err := b.resolvePriors(lsqFull); err != nil {
 		return nil, err
 	}
+	if len(b.m.free) == 0 {
+		return nil, fmt.Errorf("%w: every parameter is held fixed: nothing to sample", ErrBayesOptions)
+	}
 	modes, err := b.modes(lsqFull, lsqStarts)
 	if err != nil {
 		return nil, err

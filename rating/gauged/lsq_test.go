@@ -177,3 +177,32 @@ func TestFitControlsMatchesPowerLaw(t *testing.T) {
 		}
 	}
 }
+
+// Three controls, the last a floodplain that adds: noise-free gaugings
+// from the rating give it back (closed form: the data are the rating),
+// with the breakpoints given and fitted.
+func TestFitControlsThreeWithFloodplain(t *testing.T) {
+	truth := mustRating(t, []gauged.Control{
+		{Kind: gauged.SectionControl, A: 4, B: 0.30, C: 2.3},
+		{Kind: gauged.ChannelControl, A: 11, C: 1.7, From: 1.1},
+		{Kind: gauged.ChannelControl, Joint: gauged.Add, A: 30, C: 1.6, From: 2.6},
+	})
+	var gs []gauged.Gauging
+	for _, h := range linspace(0.45, 3.6, 50) {
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: truth.Discharge(h), Quality: rating.Good})
+	}
+	specs := []gauged.ControlSpec{{Kind: gauged.SectionControl}, {Kind: gauged.ChannelControl}, {Kind: gauged.ChannelControl, Joint: gauged.Add}}
+	for _, breaks := range [][]float64{{1.1, 2.6}, nil} {
+		f, err := gauged.FitControls(gs, gauged.ControlOptions{Controls: specs, Breaks: breaks})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for j, c := range f.Rating.Controls {
+			w := truth.Controls[j]
+			const tol = 1e-5 // the searches' convergence on exact data
+			if relErr(c.A, w.A) > tol || math.Abs(c.B-w.B) > tol || math.Abs(c.C-w.C) > tol || math.Abs(c.From-w.From) > tol {
+				t.Errorf("breaks %v: control %d %+v, want %+v", breaks, j+1, c, w)
+			}
+		}
+	}
+}

@@ -2,6 +2,7 @@ package gauged_test
 
 import (
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"wetline/rating"
@@ -124,4 +125,58 @@ func TestBayesPriorFromSection(t *testing.T) {
 	if a.PriorMean != want.LogCoefficient.Mean || a.PriorSD != want.LogCoefficient.SD || b.PriorMean != 0 {
 		t.Errorf("prior of ln a %g ± %g (want %g ± %g), of b %g ± %g", a.PriorMean, a.PriorSD, want.LogCoefficient.Mean, want.LogCoefficient.SD, b.PriorMean, b.PriorSD)
 	}
+}
+
+// A rating of a riffle (crest surveyed), the channel and its floodplain,
+// priors all from the survey: the riffle's from critical flow over the
+// crest, the channel's and the floodplain's from the gauge section, the
+// floodplain's breakpoint at the bank stage. Gaugings reach only part way
+// up the channel; the fit runs, its chains agree, each prior states its
+// source and the floodplain's breakpoint prior sits at the bank (2 m, the
+// built section's channel depth).
+func TestBayesPriorsFromSurvey(t *testing.T) {
+	crest := built(t, "rectangle:width=8,height=3", 0.03, 0.001)
+	crest.Datum = -0.2 // crest lowest point at gauge height 0.2
+	gauge := built(t, "compound:bottom=10,side=2,depth=2,floodplain=30,outer=2,floodn=0.06,height=4", 0.035, 0.001)
+	riffle, err := gauged.CrestPrior(crest, 0.2, 0.9, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	truth := mustRating(t, []gauged.Control{
+		{Kind: gauged.SectionControl, A: math.Exp(riffle.LogCoefficient.Mean) * 0.9, B: 0.2, C: 1.6},
+		{Kind: gauged.ChannelControl, A: 14, C: 1.8, From: 0.9},
+	})
+	gs := noisy(truth, linspace(0.3, 1.7, 24), []rating.Quality{rating.Good, rating.Fair}, rand.New(rand.NewPCG(10, 10)))
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{
+		ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{
+			{Kind: gauged.SectionControl}, {Kind: gauged.ChannelControl}, {Kind: gauged.ChannelControl, Joint: gauged.Add}}},
+		Priors:    []gauged.ControlPrior{{}, {Break: gauged.ParamPrior{Mean: 0.9, SD: 0.1}}, {}},
+		Hydraulic: &gauge, Crest: &crest, Chains: 4, Draws: 4000, Seed: 5,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := f.Posterior
+	t.Logf("R̂ %.3f (%s), ESS %.0f (%s), acceptance %.2f; warnings %q", p.RHatMax, p.RHatParam, p.ESSMin, p.ESSParam, p.Acceptance, f.Warnings)
+	if k, _ := findParam(p, "break3"); math.Abs(k.PriorMean-2) > 1e-5 || math.Abs(k.PriorSD-gauged.BankPriorFraction*2) > 1e-5 {
+		t.Errorf("floodplain breakpoint prior %g ± %g, want the bank at 2", k.PriorMean, k.PriorSD)
+	}
+	if b, _ := findParam(p, "b1"); b.PriorMean != 0.2 {
+		t.Errorf("first offset prior %g, want the crest at 0.2", b.PriorMean)
+	}
+	if a, _ := findParam(p, "ln_a1"); math.Abs(a.PriorMean-riffle.LogCoefficient.Mean) > 1e-9 {
+		t.Errorf("riffle prior ln a %g, want %g (critical flow over the crest)", a.PriorMean, riffle.LogCoefficient.Mean)
+	}
+	if !p.Converged {
+		t.Errorf("chains disagree: R̂ %.3f for %s", p.RHatMax, p.RHatParam)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &gauge})
+	if err != nil {
+		t.Fatal(err)
+	}
+	top := tab.Rows[len(tab.Rows)-1]
+	if !(top.TotalLower > 0 && top.TotalUpper > top.TotalLower) || top.Basis != gauged.FitAboveGaugings {
+		t.Errorf("top row %+v", top)
+	}
+	t.Logf("top row: %.1f m3/s in [%.1f, %.1f] at %.1f times the largest gauging; hydraulic %.1f", top.Discharge, top.TotalLower, top.TotalUpper, top.Multiple, top.Hydraulic)
 }
