@@ -203,6 +203,11 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if d.n() < 1 {
 		return nil, fmt.Errorf("%w: no gauging is used", ErrFewGaugings)
 	}
+	if opt.OffsetFixed {
+		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+			return nil, err
+		}
+	}
 	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
 		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
 	}

@@ -22,21 +22,24 @@ type ControlRow struct {
 	// (discharge unit): the fitted rating (least squares, or the posterior
 	// mode), or the conveyance-slope extension.
 	Stage, Discharge float64
-	// ParametricLower and ParametricUpper bound the 95 % band of the
-	// relation: least squares, the band of the mean relation; Bayesian,
+	// ParametricLower and ParametricUpper (discharge unit) bound the 95 %
+	// band of the relation: least squares, the band of the mean relation; Bayesian,
 	// the quantiles of the rating over the posterior draws.
 	ParametricLower, ParametricUpper float64
-	// TotalLower and TotalUpper bound the 95 % total band: least squares,
+	// TotalLower and TotalUpper (discharge unit) bound the 95 % total
+	// band: least squares,
 	// the prediction band of one gauging (the relation plus the standard
 	// error of estimate); Bayesian, the relation plus the remnant error.
 	// NaN where not available (at or below the offset, bands withheld).
 	TotalLower, TotalUpper float64
 	// Basis says what the row rests on.
 	Basis Basis
-	// Multiple is Discharge over the largest gauged discharge, on rows
-	// above the highest gauging (NaN on the others).
+	// Multiple is Discharge over the largest gauged discharge
+	// (dimensionless), on rows above the highest gauging (NaN on the
+	// others).
 	Multiple float64
-	// Hydraulic is the section's hydraulic discharge (NaN without).
+	// Hydraulic is the section's hydraulic discharge (discharge unit; NaN
+	// without a section).
 	Hydraulic float64
 }
 
@@ -78,8 +81,9 @@ type ControlTable struct {
 	// Extension is the conveyance-slope extension (least squares with a
 	// section; nil otherwise).
 	Extension *ConveyanceSlope
-	// MaxDischarge is the largest gauged discharge fitted; MaxMultiple the
-	// largest Multiple of the table (NaN when no row is above the gaugings).
+	// MaxDischarge is the largest gauged discharge fitted (discharge
+	// unit); MaxMultiple the largest Multiple of the table (NaN when no
+	// row is above the gaugings).
 	MaxDischarge, MaxMultiple float64
 	// BandsWithheld reports bands left out because the chains disagree.
 	BandsWithheld bool

@@ -270,15 +270,8 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	}
 	if opt.OffsetFixed {
 		m.base[m.iB()] = opt.Offset
-		var errs []error
-		for i, h := range d.h {
-			if !(h > opt.Offset) {
-				g := gs[d.index[i]]
-				errs = append(errs, fmt.Errorf("%s: stage %g: %w %g", g.label(), h, ErrBelowZero, opt.Offset))
-			}
-		}
-		if len(errs) > 0 {
-			return nil, nil, nil, errors.Join(errs...)
+		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+			return nil, nil, nil, err
 		}
 	} else {
 		m.free = append(m.free, m.iB())
@@ -308,6 +301,19 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	}
 	p.scale = scales(m, d)
 	return p, reasons, warn, nil
+}
+
+// aboveOffset returns an ErrBelowZero error naming every used gauging at
+// or below a fixed offset.
+func aboveOffset(gs []Gauging, d *data, offset float64) error {
+	var errs []error
+	for i, h := range d.h {
+		if !(h > offset) {
+			g := gs[d.index[i]]
+			errs = append(errs, fmt.Errorf("%s: stage %g: %w %g", g.label(), h, ErrBelowZero, offset))
+		}
+	}
+	return errors.Join(errs...)
 }
 
 // scales returns the scale of each free parameter: 1 for ln A and C, the

@@ -26,13 +26,14 @@ type Posterior struct {
 	// quantities (a1 …, the offsets b2 … of replacing controls, remnant
 	// σ_r).
 	Parameters []ParamSummary
-	// RHatMax and ESSMin are the largest R̂ and the least effective
-	// sample size over the sampled parameters; RHatParam and ESSParam
-	// name them.
+	// RHatMax and ESSMin are the largest R̂ (dimensionless, 1 when the
+	// chains agree) and the least effective sample size (draws) over the
+	// sampled parameters; RHatParam and ESSParam name them.
 	RHatMax, ESSMin     float64
 	RHatParam, ESSParam string
-	// Acceptance is the mean acceptance rate of the kept draws over the
-	// chains; ChainAcceptance each chain's.
+	// Acceptance is the mean acceptance rate (fraction of proposals
+	// taken, 0 to 1) of the kept draws over the chains; ChainAcceptance
+	// each chain's.
 	Acceptance      float64
 	ChainAcceptance []float64
 	// Converged reports RHatMax ≤ RHatLimit.
