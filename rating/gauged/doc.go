@@ -7,4 +7,16 @@
 // relates gauge heights to the surveyed section through its datum.
 // Discharges are in the unit system's discharge unit. Gaugings are never
 // modified and reports keep them in input order.
+//
+// Two rating engines live here. FitPowerLaw, LookupTable and Analyze fit
+// segments sharing one gauge height of zero flow and extend the table by
+// the scaled hydraulic rating. The controls engine builds a rating from
+// one to MaxControls controls, each Q = A·(h − B)^C with its own offset,
+// joined by Replace or Add (NewRating); fits it by weighted least squares
+// (FitControls) or by Bayesian inference with priors from the survey
+// (FitBayes, HydraulicPrior, CrestPrior, BankStage); tests it (Johnson's
+// zero-flow estimate, the ISO tests of a relation); and lays it out as a
+// table with a parametric and a total 95 % band on every row, the
+// conveyance-slope extension above the gaugings for least squares
+// (ControlFit.Table).
 package gauged

@@ -115,6 +115,9 @@ type Residual struct {
 	OutsideBand bool
 	// Excluded reports a gauging left out of the fit (zero discharge).
 	Excluded bool
+	// ExcludedReason says why it was left out (the controls engine:
+	// FitControls, FitBayes); empty otherwise.
+	ExcludedReason string
 }
 
 // Fit is a power-law stage–discharge relation fitted to gaugings.

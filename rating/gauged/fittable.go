@@ -20,6 +20,13 @@ const (
 	// HydraulicAbove: the hydraulic rating above the highest gauging,
 	// scaled to meet the fitted curve there.
 	HydraulicAbove
+	// FitAboveGaugings: a rating of controls carried above the highest
+	// gauging (its top control; for a Bayesian fit, as the posterior
+	// allows). Used by ControlTable.
+	FitAboveGaugings
+	// ConveyanceSlopeAbove: the conveyance-slope extension above the
+	// highest gauging (see ConveyanceSlope). Used by ControlTable.
+	ConveyanceSlopeAbove
 )
 
 func (b Basis) String() string {
@@ -28,6 +35,10 @@ func (b Basis) String() string {
 		return "fit below gaugings"
 	case HydraulicAbove:
 		return "scaled hydraulic"
+	case FitAboveGaugings:
+		return "fit above gaugings"
+	case ConveyanceSlopeAbove:
+		return "conveyance-slope"
 	}
 	return "fit"
 }

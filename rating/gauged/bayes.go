@@ -1,0 +1,768 @@
+package gauged
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"sort"
+
+	"gonum.org/v1/gonum/diff/fd"
+	"gonum.org/v1/gonum/mat"
+
+	"wetline/rating"
+)
+
+// Defaults of a Bayesian fit (project choices).
+const (
+	// DefaultChains is the number of chains.
+	DefaultChains = 4
+	// DefaultDraws is the number of draws kept per chain.
+	DefaultDraws = 5000
+	// DefaultPilot is the number of pilot iterations per chain (adapting
+	// the proposal; discarded as burn-in).
+	DefaultPilot = 3000
+	// DefaultRemnantMedian is the median of the log-normal prior of the
+	// remnant error σ_r (ln Q units: 3 %).
+	DefaultRemnantMedian = 0.03
+	// DefaultRemnantLogSD is the standard deviation of ln σ_r in that
+	// prior (a factor e either way at one standard deviation).
+	DefaultRemnantLogSD = 1.0
+	// MinESS is the effective sample size below which a warning says to
+	// draw more (common practice: a few hundred for 95 % quantiles).
+	MinESS = 400
+	// MaxBandDraws bounds the posterior draws the bands are computed
+	// from (evenly thinned when there are more).
+	MaxBandDraws = 8000
+	// modeGap is how far, in log posterior, a local mode may lie below
+	// the best one and still start a chain.
+	modeGap = 4.0
+	// startOffsetFraction places a start's first offset this fraction of
+	// the gauged span below the lowest gauging when its prior gives none.
+	startOffsetFraction = 0.1
+	// hessianStep is the central-difference step of the Laplace Hessian,
+	// in parameter scales; hessianWall stands for −log posterior where it
+	// is infinite (a finite wall keeps the differences finite).
+	hessianStep, hessianWall = 1e-4, 1e300
+	// fallbackSpread is the standard deviation, in parameter scales, of
+	// the proposal used when the Laplace covariance is not positive
+	// definite.
+	fallbackSpread = 0.1
+)
+
+// BayesOptions configure a Bayesian fit of a rating of controls. The zero
+// value fits one control of unknown kind with weak priors, four chains.
+type BayesOptions struct {
+	// ControlOptions are the controls, breakpoints, offset, units and
+	// selection, as for FitControls; given breakpoints and a fixed offset
+	// are held, not sampled.
+	ControlOptions
+	// Priors, when given, hold one ControlPrior per control; a parameter
+	// whose prior is not given (SD = 0, not Fixed) takes a prior derived
+	// from Hydraulic or Crest, or a weak one.
+	Priors []ControlPrior
+	// Hydraulic is the gauge section's hydraulic rating (with its slope):
+	// the prior of channel controls (HydraulicPrior), of the first
+	// channel control's offset (the lowest point) and of the breakpoint
+	// of a floodplain control that adds (BankStage). Nil: weak priors.
+	Hydraulic *rating.HydraulicCurve
+	// Crest is a surveyed crest section (its Datum relates it to the
+	// gauge): the prior of section controls (CrestPrior) and of their
+	// offset (the crest's lowest point). Nil: weak priors.
+	Crest *rating.HydraulicCurve
+	// NCV, SlopeCV and CrestCV are the coefficients of variation of n,
+	// slope and crest discharge (defaults DefaultNCV, DefaultSlopeCV,
+	// DefaultCrestCV; ≥ 0).
+	NCV, SlopeCV, CrestCV float64
+	// RemnantMedian and RemnantLogSD set the log-normal prior of the
+	// remnant error σ_r in ln Q (defaults DefaultRemnantMedian,
+	// DefaultRemnantLogSD; > 0).
+	RemnantMedian, RemnantLogSD float64
+	// RemnantFixed holds σ_r at Remnant (ln Q units, ≥ 0) instead.
+	RemnantFixed bool
+	Remnant      float64
+	// FlatPriors replaces every prior by a flat (improper) one, for
+	// checks against least squares; fixed parameters stay fixed.
+	FlatPriors bool
+	// Chains is the number of chains (default DefaultChains, ≥ 2 for R̂).
+	Chains int
+	// Draws is the number of draws kept per chain (default DefaultDraws).
+	Draws int
+	// Pilot is the number of pilot iterations per chain (default
+	// DefaultPilot; negative for none).
+	Pilot int
+	// Seed seeds the chains' sources; the same seed gives the same output
+	// on any number of cores.
+	Seed uint64
+}
+
+// ErrBayesOptions is returned for options a Bayesian fit cannot use.
+var ErrBayesOptions = errors.New("unusable options for a Bayesian fit")
+
+// prior is one parameter's prior as the sampler uses it: normal (sd
+// finite), flat (sd +Inf) within [lo, hi] (±Inf when open), or fixed.
+type prior struct {
+	mean, sd, lo, hi float64
+	fixed            bool
+}
+
+// logDensity is the prior's log density at x up to a constant.
+func (p prior) logDensity(x float64) float64 {
+	if x < p.lo || x > p.hi {
+		return math.Inf(-1)
+	}
+	if math.IsInf(p.sd, 1) {
+		return 0
+	}
+	z := (x - p.mean) / p.sd
+	return -0.5 * z * z
+}
+
+// moments returns the prior's reported mean and standard deviation:
+// those of the normal, of the uniform on a bounded flat prior, NaN for an
+// open flat prior.
+func (p prior) moments() (float64, float64) {
+	switch {
+	case p.fixed:
+		return p.mean, 0
+	case !math.IsInf(p.sd, 1):
+		return p.mean, p.sd
+	case finite(p.lo) && finite(p.hi):
+		return 0.5 * (p.lo + p.hi), (p.hi - p.lo) / math.Sqrt(12)
+	}
+	return math.NaN(), math.NaN()
+}
+
+// fromParam turns a given ParamPrior into a prior.
+func fromParam(pp ParamPrior) prior {
+	sd := pp.SD
+	return prior{mean: pp.Mean, sd: sd, lo: math.Inf(-1), hi: math.Inf(1), fixed: pp.Fixed}
+}
+
+// flat is an open flat prior.
+func flat() prior { return prior{mean: math.NaN(), sd: math.Inf(1), lo: math.Inf(-1), hi: math.Inf(1)} }
+
+// bayesProblem is a Bayesian fit in progress.
+type bayesProblem struct {
+	m       *model
+	d       *data
+	priors  []prior // one per parameter of the full vector
+	opt     BayesOptions
+	sources []string // per control, where its prior came from
+	warn    []string
+}
+
+// FitBayes fits a rating of controls (see NewRating) to gaugings by
+// Bayesian inference after Le Coz et al. (2014). The likelihood treats
+// each used gauging's ln Q as normal about the rating,
+//
+//	ln Qᵢ ~ N(ln Q(hᵢ; θ), σᵢ² + σ_r²),
+//
+// with σᵢ its LogSigma (its uncertainty, or its quality band, as a 95 %
+// expanded uncertainty) and σ_r a remnant (structural) error of the
+// rating, constant in ln Q (a relative error; Le Coz et al. use
+// γ₁ + γ₂·Q), with a log-normal prior. Priors of each control come from
+// opt.Priors, else from the survey (HydraulicPrior for channel controls,
+// CrestPrior for section controls, the lowest point for the first offset,
+// BankStage for a floodplain breakpoint), else weak ones (ln A ~ N(0,
+// WeakLogCoefficientSD), the exponent by kind, offsets flat, a fitted
+// breakpoint uniform over the gauged stages).
+//
+// The posterior mode is found by gonum/optimize's Nelder–Mead from the
+// least-squares fit and the prior means; the chains then sample the
+// posterior by adaptive Metropolis (see Posterior): each with its own
+// source seeded from opt.Seed, started about the mode (or at other local
+// modes within modeGap of it), run on separate goroutines in fixed
+// chunks, so the output is the same for any GOMAXPROCS. The bands of
+// ControlTable come from the draws.
+//
+// Errors: those of FitControls's options and gaugings, ErrBayesOptions,
+// ErrFewGaugings when no start is admissible.
+//
+// References:
+//
+//	Le Coz, J., Renard, B., Bonnifait, L., Branger, F., Le Boursicaud, R.
+//	(2014). Combining hydraulic knowledge and uncertain gaugings in the
+//	estimation of hydrometric rating curves: a Bayesian approach.
+//	Journal of Hydrology 509, 573–587.
+//	Haario, H., Saksman, E., Tamminen, J. (2001). An adaptive Metropolis
+//	algorithm. Bernoulli 7(2), 223–242.
+//	Gelman, A., Rubin, D. B. (1992). Statistical Science 7(4), 457–472.
+func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
+	if err := opt.check(); err != nil {
+		return nil, err
+	}
+	kinds, joints, err := opt.specs()
+	if err != nil {
+		return nil, err
+	}
+	d, reasons, warn, err := selectGaugings(gs, opt.Selection)
+	if err != nil {
+		return nil, err
+	}
+	if d.n() < 1 {
+		return nil, fmt.Errorf("%w: no gauging is used", ErrFewGaugings)
+	}
+	if opt.OffsetFixed {
+		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+			return nil, err
+		}
+	}
+	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
+		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
+	}
+	var lsqStarts [][]float64
+	var lsqFull []float64
+	if p, _, _, err := newLSQProblem(gs, opt.ControlOptions); err == nil {
+		lsqStarts = p.starts()
+		if x, _, err := p.solveFrom(lsqStarts); err == nil {
+			lsqFull = p.m.full(x)
+		}
+	}
+	b := &bayesProblem{m: newModel(kinds, joints), d: d, opt: opt, warn: warn}
+	if err := b.resolvePriors(lsqFull); err != nil {
+		return nil, err
+	}
+	if len(b.m.free) == 0 {
+		return nil, fmt.Errorf("%w: every parameter is held fixed: nothing to sample", ErrBayesOptions)
+	}
+	modes, err := b.modes(lsqFull, lsqStarts)
+	if err != nil {
+		return nil, err
+	}
+	f := &ControlFit{Method: Bayesian, Units: opt.Units, OffsetFixed: opt.OffsetFixed, BreaksFixed: opt.Breaks != nil,
+		m: b.m, d: d, x: modes[0].x, scale: b.scales(), Warnings: b.warn, StandardErrorLog: math.NaN(), StandardErrorPercent: math.NaN()}
+	f.OffsetSource = "fitted"
+	if opt.OffsetFixed {
+		f.OffsetSource = opt.OffsetSource
+		if f.OffsetSource == "" {
+			f.OffsetSource = "given"
+		}
+	}
+	f.Params = len(b.m.free)
+	r, _ := b.m.rating(b.m.full(f.x))
+	f.Rating = r
+	np := f.Params
+	if !b.priors[b.m.iRemnant()].fixed {
+		np-- // the remnant is not a parameter of the rating
+	}
+	f.StandardErrorLog = b.modeScatter(f.Rating, np)
+	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
+	post := b.sample(modes, f.scale)
+	f.Posterior = post
+	f.Controls = b.controlsFromPosterior(r, post)
+	f.Warnings = append(f.Warnings, post.warnings()...)
+	f.finishCommon(gs, reasons)
+	for k := range kinds {
+		lo, hi := math.Inf(-1), math.Inf(1)
+		if k > 0 {
+			lo = r.Controls[k].From
+		}
+		if k+1 < len(kinds) {
+			hi = r.Controls[k+1].From
+		}
+		if n := d.countIn(lo, hi); n < MinPerSegment {
+			f.Warnings = append(f.Warnings, fmt.Sprintf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, n, b.sources[k]))
+		}
+	}
+	return f, nil
+}
+
+// modeScatter is the weighted standard error of estimate of rating r, as
+// for least squares: √(Σwᵢrᵢ²/(n − p)) with weights normalised to mean 1
+// (NaN when n ≤ p).
+func (b *bayesProblem) modeScatter(r Rating, p int) float64 {
+	d := b.d
+	if d.n() <= p {
+		return math.NaN()
+	}
+	var ss float64
+	for i, h := range d.h {
+		e := d.y[i] - logQ(r, h)
+		ss += d.w[i] * e * e
+	}
+	return math.Sqrt(ss / float64(d.n()-p))
+}
+
+// check validates and defaults the options in place.
+func (o *BayesOptions) check() error {
+	if o.Chains == 0 {
+		o.Chains = DefaultChains
+	}
+	if o.Draws == 0 {
+		o.Draws = DefaultDraws
+	}
+	if o.Pilot == 0 {
+		o.Pilot = DefaultPilot
+	}
+	if o.Pilot < 0 {
+		o.Pilot = 0
+	}
+	if o.RemnantMedian == 0 {
+		o.RemnantMedian = DefaultRemnantMedian
+	}
+	if o.RemnantLogSD == 0 {
+		o.RemnantLogSD = DefaultRemnantLogSD
+	}
+	switch {
+	case o.Chains < 1 || o.Draws < 4:
+		return fmt.Errorf("%w: %d chains of %d draws (at least 1 chain of 4 draws)", ErrBayesOptions, o.Chains, o.Draws)
+	case !(o.RemnantMedian > 0) || !(o.RemnantLogSD > 0) || math.IsInf(o.RemnantMedian, 0) || math.IsInf(o.RemnantLogSD, 0):
+		return fmt.Errorf("%w: remnant prior median %g, log sd %g", ErrBayesOptions, o.RemnantMedian, o.RemnantLogSD)
+	case o.RemnantFixed && !(o.Remnant >= 0 && !math.IsInf(o.Remnant, 0)):
+		return fmt.Errorf("%w: fixed remnant %g", ErrBayesOptions, o.Remnant)
+	case !(o.NCV >= 0) || !(o.SlopeCV >= 0) || !(o.CrestCV >= 0):
+		return fmt.Errorf("%w: coefficients of variation %g, %g, %g", ErrBayesOptions, o.NCV, o.SlopeCV, o.CrestCV)
+	}
+	for k, cp := range o.Priors {
+		for _, pp := range []ParamPrior{cp.LogCoefficient, cp.Exponent, cp.Offset, cp.Break} {
+			if pp.given() && (!finite(pp.Mean) || !(pp.SD >= 0)) {
+				return fmt.Errorf("%w: control %d has a prior of mean %g and standard deviation %g", ErrBayesOptions, k+1, pp.Mean, pp.SD)
+			}
+		}
+	}
+	return nil
+}
+
+// scales returns the scale of each free parameter (see scales), 1 for
+// the remnant.
+func (b *bayesProblem) scales() []float64 { return scales(b.m, b.d) }
+
+// logPost is the log posterior density (up to a constant) at free
+// parameters x; −Inf where x makes no rating or a gauging lies at or below
+// the first offset.
+func (b *bayesProblem) logPost(x []float64) float64 {
+	p := b.m.full(x)
+	var lp float64
+	for j, i := range b.m.free {
+		lp += b.priors[i].logDensity(x[j])
+	}
+	if math.IsInf(lp, -1) || math.IsNaN(lp) {
+		return math.Inf(-1)
+	}
+	r, ok := b.m.rating(p)
+	if !ok {
+		return math.Inf(-1)
+	}
+	sr := math.Exp(p[b.m.iRemnant()])
+	sr2 := sr * sr
+	for i, h := range b.d.h {
+		mu := logQ(r, h)
+		if math.IsInf(mu, -1) || math.IsNaN(mu) {
+			return math.Inf(-1)
+		}
+		v := b.d.sigma[i]*b.d.sigma[i] + sr2
+		e := b.d.y[i] - mu
+		lp -= 0.5 * (e*e/v + math.Log(v))
+	}
+	return lp
+}
+
+// resolvePriors sets the prior of every parameter and the free list.
+// est is the least-squares estimate (full vector) or nil.
+func (b *bayesProblem) resolvePriors(est []float64) error {
+	m, d, o := b.m, b.d, b.opt
+	k := m.k()
+	b.priors = make([]prior, m.fullLen())
+	b.sources = make([]string, k)
+	given := func(j int) ControlPrior {
+		if o.Priors == nil {
+			return ControlPrior{}
+		}
+		return o.Priors[j]
+	}
+	// Breakpoints first: they bound the controls' ranges.
+	for j := 1; j < k; j++ {
+		i := m.iBreak(j)
+		switch {
+		case o.Breaks != nil:
+			b.priors[i] = prior{mean: o.Breaks[j-1], fixed: true}
+		case given(j).Break.given():
+			b.priors[i] = fromParam(given(j).Break)
+		case m.joints[j] == Add && o.Hydraulic != nil:
+			bank, ok, err := BankStage(*o.Hydraulic)
+			if err != nil {
+				return err
+			}
+			if !ok {
+				return fmt.Errorf("%w: control %d adds a floodplain but the section has no overbanks: give its breakpoint", ErrBayesOptions, j+1)
+			}
+			b.priors[i] = prior{mean: bank, sd: BankPriorFraction * (bank - o.Hydraulic.Bottom()), lo: math.Inf(-1), hi: math.Inf(1)}
+		default:
+			b.priors[i] = prior{mean: math.NaN(), sd: math.Inf(1), lo: d.lo, hi: d.hi}
+		}
+	}
+	breakAt := func(j int) float64 {
+		p := b.priors[m.iBreak(j)]
+		switch {
+		case finite(p.mean):
+			return p.mean
+		case est != nil:
+			return est[m.iBreak(j)]
+		}
+		return d.lo + (d.hi-d.lo)*float64(j)/float64(k)
+	}
+	// The first offset.
+	ib := m.iB()
+	bottom, hasBottom := b.surveyBottom(0)
+	switch {
+	case o.OffsetFixed:
+		b.priors[ib] = prior{mean: o.Offset, fixed: true}
+	case given(0).Offset.given():
+		b.priors[ib] = fromParam(given(0).Offset)
+	case hasBottom:
+		to := d.hi
+		if k > 1 {
+			to = breakAt(1)
+		}
+		b.priors[ib] = prior{mean: bottom, sd: OffsetPriorFraction * math.Max(to-bottom, 0), lo: math.Inf(-1), hi: math.Inf(1)}
+		if !(b.priors[ib].sd > 0) {
+			b.priors[ib].sd = math.Inf(1)
+		}
+	default:
+		b.priors[ib] = flat()
+	}
+	// Coefficients and exponents.
+	for j := 0; j < k; j++ {
+		from := b.priors[ib].mean
+		if j == 0 && !finite(from) {
+			from = d.lo
+			if est != nil {
+				from = est[ib]
+			}
+		}
+		if j > 0 {
+			from = breakAt(j)
+		}
+		to := d.hi
+		if j+1 < k {
+			to = breakAt(j + 1)
+		} else if o.Hydraulic != nil {
+			to = math.Max(o.Hydraulic.Top(), to)
+		}
+		derived, src, err := b.derivedPrior(j, from, to)
+		if err != nil {
+			b.warn = append(b.warn, fmt.Sprintf("control %d: %v: weak priors instead", j+1, err))
+		}
+		gp := given(j)
+		lnA, c := derived.LogCoefficient, derived.Exponent
+		if gp.LogCoefficient.given() {
+			lnA, src = gp.LogCoefficient, "given"
+		}
+		if gp.Exponent.given() {
+			c = gp.Exponent
+		}
+		if gp.Source != "" {
+			src = gp.Source
+		}
+		b.priors[m.iLnA(j)], b.priors[m.iC(j)] = fromParam(lnA), fromParam(c)
+		b.sources[j] = src
+	}
+	// The remnant.
+	ir := m.iRemnant()
+	if o.RemnantFixed {
+		b.priors[ir] = prior{mean: math.Log(o.Remnant), fixed: true}
+	} else {
+		b.priors[ir] = prior{mean: math.Log(o.RemnantMedian), sd: o.RemnantLogSD, lo: math.Inf(-1), hi: math.Inf(1)}
+	}
+	if o.FlatPriors {
+		for i := range b.priors {
+			if !b.priors[i].fixed {
+				b.priors[i] = flat()
+			}
+		}
+	}
+	m.free = m.free[:0]
+	for i, p := range b.priors {
+		m.base[i] = p.mean
+		if !p.fixed {
+			m.free = append(m.free, i)
+		}
+	}
+	return nil
+}
+
+// surveyBottom returns the survey's lowest point of control j's section
+// (gauge height): the crest's for a section control with a crest, the
+// gauge section's for a channel control with a section.
+func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
+	switch {
+	case b.m.kinds[j] == SectionControl && b.opt.Crest != nil:
+		return b.opt.Crest.Bottom(), true
+	case b.m.kinds[j] == ChannelControl && b.opt.Hydraulic != nil:
+		return b.opt.Hydraulic.Bottom(), true
+	}
+	return 0, false
+}
+
+// derivedPrior returns control j's prior of ln A and C over gauge heights
+// from..to: from the survey when its kind has one, else weak.
+func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, string, error) {
+	m, o := b.m, b.opt
+	weak := ControlPrior{LogCoefficient: ParamPrior{Mean: 0, SD: WeakLogCoefficientSD}, Exponent: weakExponent(m.kinds[j])}
+	weakSrc := fmt.Sprintf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
+	switch {
+	case m.kinds[j] == ChannelControl && o.Hydraulic != nil:
+		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV}
+		switch {
+		case j > 0 && m.joints[j] == Add:
+			ho.Part, ho.OffsetFixed, ho.Offset = OverbankPart, true, from
+		case j+1 < m.k() && m.joints[j+1] == Add:
+			ho.Part = ChannelPart
+		}
+		if j+1 < m.k() && m.joints[j+1] == Add {
+			to = math.Max(o.Hydraulic.Top(), to) // the channel carries on above the floodplain's breakpoint
+		}
+		if j == 0 {
+			if p := b.priors[m.iB()]; finite(p.mean) {
+				ho.OffsetFixed, ho.Offset = true, p.mean
+			}
+		}
+		cp, err := HydraulicPrior(*o.Hydraulic, from, to, ho)
+		if err != nil {
+			return weak, weakSrc, err
+		}
+		return cp, cp.Source, nil
+	case m.kinds[j] == SectionControl && o.Crest != nil:
+		cp, err := CrestPrior(*o.Crest, from, to, o.CrestCV)
+		if err != nil {
+			return weak, weakSrc, err
+		}
+		return cp, cp.Source, nil
+	}
+	return weak, weakSrc, nil
+}
+
+// mode is a local maximum of the posterior.
+type mode struct {
+	x  []float64
+	lp float64
+}
+
+// modes returns the local posterior modes found from the least-squares
+// starts and the prior means, best first, keeping those within modeGap of
+// the best (distinct ones only).
+func (b *bayesProblem) modes(lsqFull []float64, lsqStarts [][]float64) ([]mode, error) {
+	m := b.m
+	var starts [][]float64
+	withRemnant := func(full []float64) []float64 {
+		p := append([]float64(nil), full...)
+		for i, pr := range b.priors {
+			if pr.fixed {
+				p[i] = pr.mean
+			}
+		}
+		if !b.priors[m.iRemnant()].fixed {
+			p[m.iRemnant()] = math.Log(b.opt.RemnantMedian)
+		}
+		return m.freeOf(p)
+	}
+	if lsqFull != nil {
+		starts = append(starts, withRemnant(lsqFull))
+	}
+	for _, s := range lsqStarts {
+		starts = append(starts, withRemnant(s))
+	}
+	if s, ok := b.priorStart(); ok {
+		starts = append(starts, withRemnant(s))
+	}
+	scale := b.scales()
+	neg := func(x []float64) float64 { return -b.logPost(x) }
+	var found []mode
+	for _, x := range starts {
+		if math.IsInf(b.logPost(x), -1) {
+			continue
+		}
+		x, _ = nelderMead(neg, x, scale)
+		x, f := nelderMead(neg, x, scale)
+		found = append(found, mode{x: x, lp: -f})
+	}
+	if len(found) == 0 {
+		return nil, fmt.Errorf("%w: no admissible start for the posterior (check the breakpoints, offsets and priors)", ErrFewGaugings)
+	}
+	sort.SliceStable(found, func(a, c int) bool { return found[a].lp > found[c].lp })
+	out := []mode{found[0]}
+	for _, md := range found[1:] {
+		if found[0].lp-md.lp > modeGap {
+			break
+		}
+		distinct := true
+		for _, o := range out {
+			if sameMode(o.x, md.x, scale) {
+				distinct = false
+			}
+		}
+		if distinct {
+			out = append(out, md)
+		}
+	}
+	return out, nil
+}
+
+// sameModeTol is the distance, in parameter scales, within which two
+// modes are the same.
+const sameModeTol = 1e-3
+
+// sameMode reports two points within sameModeTol scales of each other.
+func sameMode(a, b, scale []float64) bool {
+	for i := range a {
+		if math.Abs(a[i]-b[i]) > sameModeTol*scale[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// priorStart builds a start from the priors and the gaugings: breakpoints
+// and offsets at their prior means (or within the gaugings), each control
+// fitted to its gaugings when it holds two, else at its prior means.
+func (b *bayesProblem) priorStart() ([]float64, bool) {
+	m, d := b.m, b.d
+	k := m.k()
+	full := append([]float64(nil), m.base...)
+	for i, p := range b.priors {
+		switch {
+		case finite(p.mean):
+			full[i] = p.mean
+		case finite(p.lo) && finite(p.hi):
+			full[i] = 0.5 * (p.lo + p.hi)
+		}
+	}
+	span := math.Max(d.hi-d.lo, minSpan)
+	if ib := m.iB(); !finite(full[ib]) || !(full[ib] < d.lo) {
+		full[ib] = d.lo - startOffsetFraction*span
+	}
+	for j := 1; j < k; j++ {
+		if i := m.iBreak(j); !finite(full[i]) {
+			full[i] = d.lo + span*float64(j)/float64(k)
+		}
+	}
+	for j := 0; j < k; j++ {
+		lo, hi := math.Inf(-1), math.Inf(1)
+		if j > 0 {
+			lo = full[m.iBreak(j)]
+		}
+		if j+1 < k {
+			hi = full[m.iBreak(j+1)]
+		}
+		hs, ys, ws := d.slice(lo, hi)
+		if len(hs) < 2 {
+			continue
+		}
+		if j == 0 {
+			if la, c, _, ok := powerFit(hs, ys, ws, full[m.iB()]); ok {
+				full[m.iLnA(0)], full[m.iC(0)] = la, c
+			}
+			continue
+		}
+		below, ok := m.ratingUpTo(full, j-1)
+		if !ok {
+			return nil, false
+		}
+		if m.joints[j] == Add {
+			full[m.iLnA(j)], full[m.iC(j)] = addStart(below, j-1, lo, hs, ys, ws)
+		} else if la, c, ok := replaceStart(below.upTo(j-1, lo), lo, hs, ys, ws, span); ok {
+			full[m.iLnA(j)], full[m.iC(j)] = la, c
+		}
+	}
+	return full, true
+}
+
+// laplace returns the covariance of the normal approximation at mode x:
+// the inverse Hessian of −log posterior by central differences (in scaled
+// coordinates), or diagonal with fallbackSpread scales when that is not
+// positive definite.
+func (b *bayesProblem) laplace(x, scale []float64) *mat.SymDense {
+	d := len(x)
+	z := make([]float64, d)
+	for i := range x {
+		z[i] = x[i] / scale[i]
+	}
+	xs := make([]float64, d)
+	f := func(z []float64) float64 {
+		for i := range z {
+			xs[i] = z[i] * scale[i]
+		}
+		v := -b.logPost(xs)
+		if math.IsInf(v, 1) {
+			return hessianWall
+		}
+		return v
+	}
+	var h mat.SymDense
+	fd.Hessian(&h, f, z, &fd.Settings{Formula: fd.Central, Step: hessianStep})
+	var ch mat.Cholesky
+	if ch.Factorize(&h) {
+		var inv mat.SymDense
+		if err := ch.InverseTo(&inv); err == nil {
+			out := mat.NewSymDense(d, nil)
+			ok := true
+			for i := 0; i < d; i++ {
+				for j := i; j < d; j++ {
+					v := inv.At(i, j) * scale[i] * scale[j]
+					ok = ok && finite(v)
+					out.SetSym(i, j, v)
+				}
+			}
+			if ok {
+				return out
+			}
+		}
+	}
+	return diagonal(scale, fallbackSpread)
+}
+
+// sample runs the chains from the modes and summarises the posterior.
+func (b *bayesProblem) sample(modes []mode, scale []float64) *Posterior {
+	o := b.opt
+	dim := len(modes[0].x)
+	lap := b.laplace(modes[0].x, scale)
+	cov0 := mat.NewSymDense(dim, nil)
+	cov0.ScaleSym(amScale*amScale/float64(dim), lap)
+	var lapL mat.TriDense
+	var ch mat.Cholesky
+	if ch.Factorize(lap) {
+		ch.LTo(&lapL)
+	}
+	specs := make([]chainSpec, o.Chains)
+	for c := range specs {
+		src := rand.NewPCG(o.Seed, chainStream+uint64(c))
+		start := modes[c%len(modes)].x
+		if c >= len(modes) {
+			start = b.overdispersed(start, &lapL, rand.New(src))
+		}
+		specs[c] = chainSpec{start: start, cov0: cov0, src: src, pilot: o.Pilot, draws: o.Draws}
+	}
+	res := runChains(logTarget(b.logPost), specs, scale)
+	return b.posterior(res, modes)
+}
+
+// chainStream offsets the second seed word of the chains' sources.
+const chainStream = 0x5eed
+
+// overdispersed returns a start startSpread Laplace standard deviations
+// about x with a finite posterior (x itself after startTries failures).
+func (b *bayesProblem) overdispersed(x []float64, l *mat.TriDense, rnd *rand.Rand) []float64 {
+	d := len(x)
+	if r, _ := l.Dims(); r != d {
+		return x
+	}
+	z := make([]float64, d)
+	for t := 0; t < startTries; t++ {
+		for i := range z {
+			z[i] = rnd.NormFloat64()
+		}
+		y := make([]float64, d)
+		for i := 0; i < d; i++ {
+			s := x[i]
+			for j := 0; j <= i; j++ {
+				s += startSpread * l.At(i, j) * z[j]
+			}
+			y[i] = s
+		}
+		if !math.IsInf(b.logPost(y), -1) {
+			return y
+		}
+	}
+	return x
+}

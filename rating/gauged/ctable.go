@@ -1,0 +1,345 @@
+package gauged
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/mat"
+
+	"wetline/rating"
+)
+
+// ExtrapolationWarnMultiple is the multiple of the largest gauged
+// discharge past which a table warns (common practice: a rating is not
+// carried beyond about twice the largest measured discharge without a
+// hydraulic basis).
+const ExtrapolationWarnMultiple = 2.0
+
+// ControlRow is one row of a table of a rating of controls.
+type ControlRow struct {
+	// Stage is the gauge height (length unit); Discharge the table's value
+	// (discharge unit): the fitted rating (least squares, or the posterior
+	// mode), or the conveyance-slope extension.
+	Stage, Discharge float64
+	// ParametricLower and ParametricUpper (discharge unit) bound the 95 %
+	// band of the relation: least squares, the band of the mean relation; Bayesian,
+	// the quantiles of the rating over the posterior draws.
+	ParametricLower, ParametricUpper float64
+	// TotalLower and TotalUpper (discharge unit) bound the 95 % total
+	// band: least squares,
+	// the prediction band of one gauging (the relation plus the standard
+	// error of estimate); Bayesian, the relation plus the remnant error.
+	// NaN where not available (at or below the offset, bands withheld).
+	TotalLower, TotalUpper float64
+	// Basis says what the row rests on.
+	Basis Basis
+	// Multiple is Discharge over the largest gauged discharge
+	// (dimensionless), on rows above the highest gauging (NaN on the
+	// others).
+	Multiple float64
+	// Hydraulic is the section's hydraulic discharge (discharge unit; NaN
+	// without a section).
+	Hydraulic float64
+}
+
+// Extrapolated reports a row outside the range of the gaugings.
+func (r ControlRow) Extrapolated() bool { return r.Basis != WithinGaugings }
+
+// ControlTableOptions configure a table of a rating of controls. The zero
+// value lays out about rating.MaxDefaultRows round stages from the first
+// offset to the highest gauging, or to the section's lower end when a
+// hydraulic rating is given.
+type ControlTableOptions struct {
+	// Step is the stage step (length unit, > 0; default a round step).
+	Step float64
+	// To is the highest stage (gauge height; 0 = default). It may not lie
+	// above the section's lower end; without a section, rows above the
+	// highest gauging carry the fitted rating on.
+	To float64
+	// Hydraulic is the section's hydraulic rating: the conveyance-slope
+	// extension of a least-squares fit above the highest gauging, the
+	// Hydraulic column and the default top.
+	Hydraulic *rating.HydraulicCurve
+	// ExtensionGaugings is the number of highest gaugings the
+	// conveyance-slope extension is fitted to (0: those on the top
+	// control, or the upper half of the gauged stages with one control;
+	// at least ConveyanceSlopeMin).
+	ExtensionGaugings int
+	// ShowUnconverged gives a Bayesian fit's bands even when its chains
+	// disagree (R̂ above RHatLimit); by default they are withheld.
+	ShowUnconverged bool
+}
+
+// ControlTable is a stage–discharge table of a rating of controls with
+// both bands on every row.
+type ControlTable struct {
+	// Method is the fit's method.
+	Method Method
+	// Rows ascend in stage.
+	Rows []ControlRow
+	// Extension is the conveyance-slope extension (least squares with a
+	// section; nil otherwise).
+	Extension *ConveyanceSlope
+	// MaxDischarge is the largest gauged discharge fitted (discharge
+	// unit); MaxMultiple the largest Multiple of the table (NaN when no
+	// row is above the gaugings).
+	MaxDischarge, MaxMultiple float64
+	// BandsWithheld reports bands left out because the chains disagree.
+	BandsWithheld bool
+	// BandNote says what the two bands are, in words.
+	BandNote string
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+
+	fit *ControlFit
+	hyd *rating.HydraulicCurve
+}
+
+// Table lays out the fitted rating as a table from the first offset, with
+// the 95 % parametric and total bands on every row (see ControlRow).
+// Between the gaugings and below them the rows are the fitted rating;
+// above the highest gauging, a least-squares fit with a section follows
+// the conveyance-slope extension (FitConveyanceSlope, every gauging of the
+// upper range), a Bayesian fit or a fit without a section carries the
+// rating on (the Bayesian band then widens as the prior allows). Rows above
+// the gaugings give their discharge as a multiple of the largest gauged
+// one, with a warning past ExtrapolationWarnMultiple. A To above the
+// section's lower end is ErrBeyondSection.
+//
+// References:
+//
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. USGS
+//	TWRI 3-A10 (extrapolation; conveyance-slope method).
+//	Le Coz, J., et al. (2014). Journal of Hydrology 509, 573–587
+//	(parametric and total bands from the posterior).
+func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
+	t := ControlTable{Method: f.Method, MaxDischarge: f.MaxDischarge, MaxMultiple: math.NaN(), fit: f, hyd: opt.Hydraulic}
+	u := f.Units
+	lo, top := f.Rating.Controls[0].B, f.HighStage
+	if c := opt.Hydraulic; c != nil {
+		top = math.Max(top, c.Top())
+		if c.Top() < f.HighStage {
+			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge)", f.HighStage, u.Length(), c.Top(), u.Length()))
+		}
+	}
+	if opt.To != 0 {
+		if c := opt.Hydraulic; c != nil && opt.To > math.Max(c.Top(), f.HighStage) {
+			return t, fmt.Errorf("%w: stage %g %s is above the section's lower end at %g %s", ErrBeyondSection, opt.To, u.Length(), c.Top(), u.Length())
+		}
+		if !(opt.To > lo) {
+			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
+		}
+		top = opt.To
+	}
+	if f.Method == LeastSquares && opt.Hydraulic != nil && top > f.HighStage {
+		h, q, w := upperGaugings(f.d, f.Rating, opt.ExtensionGaugings)
+		ext, err := FitConveyanceSlope(*opt.Hydraulic, h, q, w)
+		if err != nil {
+			t.Warnings = append(t.Warnings, fmt.Sprintf("%v: the fitted rating is carried above the gaugings instead", err))
+		} else {
+			t.Extension = &ext
+		}
+	}
+	if f.Posterior != nil && !f.Posterior.Converged && !opt.ShowUnconverged {
+		t.BandsWithheld = true
+		t.Warnings = append(t.Warnings, fmt.Sprintf("bands withheld: the chains disagree (R̂ = %.3g > %g)", f.Posterior.RHatMax, RHatLimit))
+	}
+	t.BandNote = t.bandNote()
+	stages, err := tableStages(lo, top, opt.Step, []float64{f.LowStage, f.HighStage})
+	if err != nil {
+		return t, err
+	}
+	for _, h := range stages {
+		r, err := t.row(h)
+		if err != nil {
+			return t, err
+		}
+		t.Rows = append(t.Rows, r)
+		if !math.IsNaN(r.Multiple) && !(r.Multiple <= t.MaxMultiple) {
+			t.MaxMultiple = r.Multiple
+		}
+	}
+	t.Warnings = append(t.Warnings, t.extensionWarnings()...)
+	return t, nil
+}
+
+// bandNote says what the bands of the table are.
+func (t *ControlTable) bandNote() string {
+	if t.Method == Bayesian {
+		return "parametric: 2.5 and 97.5 % quantiles of the rating over the posterior draws; total: the same with the remnant error added (the uncertainty of the rated discharge, not of a gauging)"
+	}
+	note := "parametric: 95 % band of the mean relation (delta method); total: 95 % prediction band of a single discharge (adds the standard error of estimate)"
+	if t.Extension != nil {
+		note += "; above the highest gauging, the same bands of the conveyance-slope extension (from the standard errors and the scatter of ln S)"
+	}
+	return note
+}
+
+// extensionWarnings warns of rows far above the gaugings and of a jump
+// where the extension meets the fit.
+func (t *ControlTable) extensionWarnings() []string {
+	var out []string
+	f := t.fit
+	if t.MaxMultiple > ExtrapolationWarnMultiple {
+		out = append(out, fmt.Sprintf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
+			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))
+	}
+	if t.Extension != nil && t.hyd != nil {
+		if r, err := t.hyd.Row(f.HighStage); err == nil {
+			q, _, _, _, _ := t.Extension.At(f.HighStage, r.Conveyance)
+			fit := f.Rating.Discharge(f.HighStage)
+			_, _, tLo, tHi := f.Band(f.HighStage)
+			if q < tLo || q > tHi {
+				out = append(out, fmt.Sprintf("at the highest gauging (%g %s) the conveyance-slope extension gives %.4g %s and the fitted rating %.4g %s, outside its prediction band: the table steps there",
+					f.HighStage, f.Units.Length(), q, f.Units.Discharge(), fit, f.Units.Discharge()))
+			}
+		}
+	}
+	prev := 0.0
+	for _, r := range t.Rows {
+		if r.Discharge < prev {
+			out = append(out, fmt.Sprintf("discharge falls at %g %s: check the section and the extension", r.Stage, f.Units.Length()))
+			break
+		}
+		prev = r.Discharge
+	}
+	return out
+}
+
+// aboveWhat names what rows above the gaugings rest on.
+func (t *ControlTable) aboveWhat() string {
+	switch {
+	case t.Extension != nil:
+		return "conveyance-slope extension"
+	case t.Method == Bayesian:
+		return "top control's prior as the gaugings pull it"
+	}
+	return "top control carried on"
+}
+
+// tableStages lays out round stages from lo to top in step (default a
+// round step giving about rating.MaxDefaultRows rows), with lo, top and
+// the must stages within the range, dropping grid stages within
+// stageMerge of a step of them.
+func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
+	if !(step > 0) || math.IsInf(step, 0) {
+		step = rating.NiceStep((top - lo) / rating.MaxDefaultRows)
+	}
+	if (top-lo)/step > rating.MaxStages {
+		return nil, fmt.Errorf("%w: step %g is too small for %g to %g", rating.ErrStages, step, lo, top)
+	}
+	keep := []float64{lo, top}
+	for _, m := range must {
+		if m > lo && m < top {
+			keep = append(keep, m)
+		}
+	}
+	out := append([]float64(nil), keep...)
+	first := math.Ceil(lo / step)
+	for i := 0.0; ; i++ {
+		h := (first + i) * step
+		if h >= top {
+			break
+		}
+		near := false
+		for _, m := range keep {
+			near = near || math.Abs(h-m) < stageMerge*step
+		}
+		if !near && h > lo {
+			out = append(out, h)
+		}
+	}
+	out = rating.SortedStages(out)
+	sort.Float64s(out)
+	return out, nil
+}
+
+// row returns the table's row at gauge height h.
+func (t *ControlTable) row(h float64) (ControlRow, error) {
+	f := t.fit
+	r := ControlRow{Stage: h, Multiple: math.NaN(), Hydraulic: math.NaN()}
+	k := math.NaN()
+	if t.hyd != nil {
+		hr, err := t.hyd.Row(h)
+		if err != nil {
+			return r, err
+		}
+		r.Hydraulic, k = hr.Discharge, hr.Conveyance
+	}
+	switch {
+	case h > f.HighStage && t.Extension != nil:
+		r.Basis = ConveyanceSlopeAbove
+		r.Discharge, r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = t.Extension.At(h, k)
+	default:
+		switch {
+		case h > f.HighStage:
+			r.Basis = FitAboveGaugings
+		case h < f.LowStage:
+			r.Basis = BelowGaugings
+		}
+		r.Discharge = f.Rating.Discharge(h)
+		r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = f.Band(h)
+	}
+	if h > f.HighStage && f.MaxDischarge > 0 {
+		r.Multiple = r.Discharge / f.MaxDischarge
+	}
+	if t.BandsWithheld {
+		nan := math.NaN()
+		r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = nan, nan, nan, nan
+	}
+	return r, nil
+}
+
+// At evaluates the table's rule at any gauge height h between its first
+// and last rows, exactly as Table does for its own rows: it is how a finer
+// table is made without interpolating between rows. A stage outside the
+// table is ErrBeyondSection.
+func (t *ControlTable) At(h float64) (ControlRow, error) {
+	if len(t.Rows) == 0 || math.IsNaN(h) || h < t.Rows[0].Stage-TableEdge || h > t.Rows[len(t.Rows)-1].Stage+TableEdge {
+		return ControlRow{}, fmt.Errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
+	}
+	return t.row(h)
+}
+
+// Band returns the fitted rating's 95 % bands at gauge height h (without
+// any extension): least squares, the band of the mean relation by the
+// delta method and the prediction band,
+//
+//	exp(ln Q̂ ± t·√(gᵀΣg)),   exp(ln Q̂ ± t·√(gᵀΣg + s²)),
+//
+// with g the gradient of ln Q̂ in the parameters, Σ their covariance, s
+// the standard error of estimate and t Student's quantile with n − p
+// degrees of freedom; Bayesian, PosteriorBand. NaN at or below the first
+// offset and where the covariance is not available.
+//
+// References:
+//
+//	Seber, G. A. F., Wild, C. J. (1989). Nonlinear Regression. Wiley,
+//	chapter 5 (from memory).
+func (f *ControlFit) Band(h float64) (pLo, pHi, tLo, tHi float64) {
+	if f.Method == Bayesian {
+		return f.PosteriorBand(h)
+	}
+	nan := math.NaN()
+	if f.cov == nil || !(h > f.Rating.Controls[0].B) {
+		return nan, nan, nan, nan
+	}
+	lq := func(x []float64) []float64 {
+		r, ok := f.m.rating(f.m.full(x))
+		if !ok {
+			return nil
+		}
+		return []float64{logQ(r, h)}
+	}
+	y := logQ(f.Rating, h)
+	jac := jacobian(lq, f.x, f.scale, []float64{y})
+	if jac == nil {
+		return nan, nan, nan, nan
+	}
+	g := mat.NewVecDense(len(f.x), mat.Row(nil, 0, jac))
+	v := mat.Inner(g, f.cov, g)
+	hp := f.tq * math.Sqrt(v)
+	ht := f.tq * math.Sqrt(v+f.StandardErrorLog*f.StandardErrorLog)
+	return math.Exp(y - hp), math.Exp(y + hp), math.Exp(y - ht), math.Exp(y + ht)
+}

@@ -1,0 +1,216 @@
+package gauged_test
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"strings"
+	"testing"
+	"time"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+)
+
+// gaugeTruth samples gaugings from a hydraulic rating at gauge heights,
+// with log-normal noise of each gauging's standard uncertainty when rng
+// is not nil.
+func gaugeTruth(t testing.TB, c rating.HydraulicCurve, stages []float64, rng *rand.Rand) []gauged.Gauging {
+	t.Helper()
+	var gs []gauged.Gauging
+	for _, h := range stages {
+		q, err := c.Discharge(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		g := gauged.Gauging{Stage: h, Discharge: q, Quality: rating.Good}
+		if rng != nil {
+			g.Discharge *= math.Exp(g.LogSigma() * rng.NormFloat64())
+		}
+		gs = append(gs, g)
+	}
+	return gs
+}
+
+// Least squares with a section: above the highest gauging the table
+// follows the conveyance-slope extension. With gaugings taken from a
+// Manning rating of n = 0.030 and a survey with n = 0.036, every gauging's
+// effective slope is S·(0.036/0.030)² exactly, so the extension K·√S
+// gives the true rating back (closed form: Q = K_true·√S = K_survey·√S_eff,
+// Chow, 1959, eq. 6-9).
+func TestControlTableConveyanceSlope(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.030, 0.001)
+	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.036, 0.001)
+	gs := gaugeTruth(t, truth, linspace(0.3, 1.5, 15), nil)
+	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, Step: 0.25})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tab.Extension == nil || !tab.Extension.Level || len(tab.Extension.Points) < gauged.ConveyanceSlopeMin {
+		t.Fatalf("extension %+v", tab.Extension)
+	}
+	wantS := 0.001 * math.Pow(0.036/0.030, 2)
+	for _, p := range tab.Extension.Points {
+		if relErr(p.Slope, wantS) > 1e-9 {
+			t.Errorf("stage %g: effective slope %g, want %g", p.Stage, p.Slope, wantS)
+		}
+	}
+	const tol = 1e-9 // round-off
+	above := 0
+	for _, r := range tab.Rows {
+		switch {
+		case r.Stage > f.HighStage:
+			above++
+			q, _ := truth.Discharge(r.Stage)
+			if r.Basis != gauged.ConveyanceSlopeAbove || relErr(r.Discharge, q) > tol || relErr(r.Multiple, r.Discharge/f.MaxDischarge) > tol {
+				t.Errorf("stage %g: %v %g (truth %g), multiple %g", r.Stage, r.Basis, r.Discharge, q, r.Multiple)
+			}
+		case r.Stage < f.LowStage:
+			if r.Basis != gauged.BelowGaugings || !r.Extrapolated() || !math.IsNaN(r.Multiple) {
+				t.Errorf("stage %g: %+v", r.Stage, r)
+			}
+		default:
+			if r.Basis != gauged.WithinGaugings || r.Extrapolated() {
+				t.Errorf("stage %g: %+v", r.Stage, r)
+			}
+		}
+		if r.Stage > f.Rating.Controls[0].B && !(r.TotalLower <= r.ParametricLower && r.ParametricLower <= r.Discharge && r.Discharge <= r.ParametricUpper && r.ParametricUpper <= r.TotalUpper) {
+			t.Errorf("stage %g: bands out of order %+v", r.Stage, r)
+		}
+	}
+	if above == 0 || !(tab.MaxMultiple > gauged.ExtrapolationWarnMultiple) || !hasWarning(tab.Warnings, "times the largest gauged discharge") {
+		t.Errorf("%d rows above, max multiple %g, warnings %q", above, tab.MaxMultiple, tab.Warnings)
+	}
+	for _, r := range tab.Rows {
+		got, err := tab.At(r.Stage)
+		if err != nil || fmt.Sprint(got) != fmt.Sprint(r) { // printed: NaN fields compare equal
+			t.Errorf("At(%g) = %+v, row %+v (%v)", r.Stage, got, r, err)
+		}
+	}
+}
+
+func hasWarning(ws []string, part string) bool {
+	for _, w := range ws {
+		if strings.Contains(w, part) {
+			return true
+		}
+	}
+	return false
+}
+
+// A Bayesian table carries both bands on every row, extrapolated ones
+// included, and above the highest gauging the relative width of the band
+// never falls below its width at that gauging: the top control's
+// uncertainty there is the prior's, pulled by the gaugings (Le Coz et
+// al., 2014).
+func TestControlTableBayesBandsDoNotCollapse(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.040, 0.0012)
+	gs := gaugeTruth(t, truth, linspace(0.3, 1.5, 15), rand.New(rand.NewPCG(8, 8)))
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{
+		ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
+		Hydraulic:      &survey, Chains: 4, Draws: 3000, Seed: 4,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, Step: 0.25})
+	if err != nil {
+		t.Fatal(err)
+	}
+	width := func(r gauged.ControlRow) float64 { return (r.TotalUpper - r.TotalLower) / r.Discharge }
+	var atTop float64
+	for _, r := range tab.Rows {
+		if r.Stage == f.HighStage {
+			atTop = width(r)
+		}
+	}
+	for _, r := range tab.Rows[1:] {
+		if !(r.ParametricLower <= r.ParametricUpper && r.TotalLower <= r.ParametricLower && r.ParametricUpper <= r.TotalUpper) {
+			t.Errorf("stage %g: bands %+v", r.Stage, r)
+		}
+		if r.Stage > f.HighStage && !(width(r) >= atTop) {
+			t.Errorf("stage %g: relative width %.4f below %.4f at the highest gauging", r.Stage, width(r), atTop)
+		}
+	}
+	last := tab.Rows[len(tab.Rows)-1]
+	t.Logf("relative total width %.3f at the highest gauging, %.3f at %g m (%.1f times the largest gauged discharge)", atTop, width(last), last.Stage, last.Multiple)
+	if tab.BandsWithheld || !strings.Contains(tab.BandNote, "posterior") {
+		t.Errorf("withheld %v, note %q", tab.BandsWithheld, tab.BandNote)
+	}
+}
+
+// Chains too short to mix disagree; their bands are withheld unless asked.
+func TestControlTableWithholdsBands(t *testing.T) {
+	truth := mustRating(t, []gauged.Control{{A: 5, B: 0.3, C: 1.9}})
+	gs := noisy(truth, linspace(0.5, 3, 15), []rating.Quality{rating.Good}, rand.New(rand.NewPCG(6, 6)))
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{Chains: 4, Draws: 8, Pilot: -1, Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.Posterior.Converged || !hasWarning(f.Warnings, "chains disagree") {
+		t.Fatalf("short chains converged: R̂ %g", f.Posterior.RHatMax)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	shown, err := f.Table(gauged.ControlTableOptions{ShowUnconverged: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, s := tab.Rows[len(tab.Rows)-1], shown.Rows[len(shown.Rows)-1]
+	if !tab.BandsWithheld || !math.IsNaN(r.TotalUpper) || shown.BandsWithheld || math.IsNaN(s.TotalUpper) {
+		t.Errorf("withheld %v %+v; shown %v %+v", tab.BandsWithheld, r, shown.BandsWithheld, s)
+	}
+}
+
+// Selection: gaugings outside the rating period, listed by time or with an
+// exclude reason are not fitted (the fit equals that of the rest, the same
+// computation on fewer data) but keep their departures from the rating,
+// marked with their reason.
+func TestSelection(t *testing.T) {
+	truth := mustRating(t, []gauged.Control{{A: 5, B: 0.3, C: 1.9}})
+	gs := noisy(truth, linspace(0.5, 3, 20), []rating.Quality{rating.Good}, rand.New(rand.NewPCG(7, 7)))
+	t0 := time.Date(2020, 1, 1, 0, 0, 0, 0, time.UTC)
+	for i := range gs {
+		gs[i].Time = t0.AddDate(0, i, 0)
+	}
+	gs[5].Exclude = "debris on the control"
+	gs[9].Discharge *= 1.5
+	sel := gauged.Selection{From: gs[2].Time, Exclude: []time.Time{gs[9].Time, t0.AddDate(10, 0, 0)}}
+	f, err := gauged.FitControls(gs, gauged.ControlOptions{Selection: sel})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rest []gauged.Gauging
+	for i, g := range gs {
+		if i >= 2 && i != 5 && i != 9 {
+			rest = append(rest, g)
+		}
+	}
+	g, err := gauged.FitControls(rest, gauged.ControlOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := f.Rating.Controls[0], g.Rating.Controls[0]
+	if f.N != len(rest) || relErr(a.A, b.A) > 1e-12 || a.B != b.B || a.C != b.C {
+		t.Errorf("selected fit %+v (n %d), fit of the rest %+v (n %d)", a, f.N, b, g.N)
+	}
+	want := map[int]string{0: gauged.ReasonBeforePeriod, 1: gauged.ReasonBeforePeriod, 5: "debris on the control", 9: gauged.ReasonListed}
+	for i, r := range f.Residuals {
+		if r.Excluded != (want[i] != "") || r.ExcludedReason != want[i] || math.IsNaN(r.DeparturePercent) {
+			t.Errorf("gauging %d: excluded %v %q, departure %g", i, r.Excluded, r.ExcludedReason, r.DeparturePercent)
+		}
+	}
+	if d := f.Residuals[9].DeparturePercent; !(d > 40) {
+		t.Errorf("the listed gauging's departure %.1f %%, want about +50 %%", d)
+	}
+	if !hasWarning(f.Warnings, "no gauging at 2030-01-01") {
+		t.Errorf("warnings %q", f.Warnings)
+	}
+}

@@ -1,0 +1,209 @@
+package gauged
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"wetline/rating"
+)
+
+// Settings of the conveyance-slope extension.
+const (
+	// ConveyanceSlopeMin is the fewest gaugings the slope is fitted to.
+	ConveyanceSlopeMin = 3
+	// SlopeTrendLevel is the significance level of the t test of a trend
+	// of ln S with stage: without a significant trend S is taken as
+	// constant (it usually levels off at high stages; Kennedy, 1984).
+	SlopeTrendLevel = 0.05
+	// slopeFlat is the change of ln S over the upper gaugings below which
+	// S is constant whatever the test says (round-off of exact data).
+	slopeFlat = 1e-9
+)
+
+// SlopePoint is one gauging's effective friction slope.
+type SlopePoint struct {
+	// Stage is the gauge height (length unit), Discharge the measured
+	// discharge and Conveyance the section's conveyance there (discharge
+	// unit); Slope = (Discharge/Conveyance)² (dimensionless).
+	Stage, Discharge, Conveyance, Slope float64
+}
+
+// ConveyanceSlope is the extension of a rating above the gaugings by the
+// slope-conveyance method: every gauging in the upper range gives an
+// effective slope S_i = (Q_i/K(h_i))², ln S is fitted against stage by
+// weighted least squares (a straight line, or a constant when the trend is
+// not significant) and extended, and
+//
+//	Q(h) = K(h)·√S(h).
+//
+// Because S is fitted to several gaugings, the extension does not rest on
+// the top gauging alone; since K carries the survey's n, S absorbs the
+// error of n as well as the friction slope.
+type ConveyanceSlope struct {
+	// Points are the gaugings used, ascending in stage.
+	Points []SlopePoint
+	// Level reports S taken as constant (Trend 0).
+	Level bool
+	// LogSlope and Trend describe ln S = LogSlope + Trend·(h − Centre)
+	// (Trend per length unit; Centre the weighted mean stage of the
+	// points); LogSlopeSE and TrendSE are their standard errors.
+	LogSlope, Trend, Centre float64
+	LogSlopeSE, TrendSE     float64
+	// TrendP is the two-sided p-value of the t test of the trend (NaN
+	// when ln S changes by less than slopeFlat over the points: S is then
+	// taken as constant).
+	TrendP float64
+	// ScatterLog is the weighted standard deviation of ln S_i about the fit.
+	ScatterLog float64
+
+	tq float64 // Student quantile of the bands
+}
+
+// ErrExtension is returned when the conveyance-slope extension cannot be made.
+var ErrExtension = errors.New("no conveyance-slope extension")
+
+// FitConveyanceSlope fits the conveyance-slope extension (see
+// ConveyanceSlope) to gaugings with conveyances from the section's
+// hydraulic rating c. stages, discharges and weights (relative, > 0) are
+// the gaugings' in ascending stage. Fewer than ConveyanceSlopeMin gaugings,
+// or a stage with no conveyance, is ErrExtension.
+//
+// References:
+//
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. USGS
+//	Techniques of Water-Resources Investigations, book 3, chapter A10
+//	(extrapolation of rating curves: the conveyance-slope method).
+func FitConveyanceSlope(c rating.HydraulicCurve, stages, discharges, weights []float64) (ConveyanceSlope, error) {
+	n := len(stages)
+	if len(discharges) != n || len(weights) != n {
+		panic("gauged: FitConveyanceSlope: slices of different lengths")
+	}
+	s := ConveyanceSlope{TrendP: math.NaN()}
+	if n < ConveyanceSlopeMin {
+		return s, fmt.Errorf("%w: %d gaugings in the upper range, at least %d needed", ErrExtension, n, ConveyanceSlopeMin)
+	}
+	x, y, w := make([]float64, n), make([]float64, n), make([]float64, n)
+	for i, h := range stages {
+		r, err := c.Row(h)
+		if err != nil {
+			return s, err
+		}
+		if !(r.Conveyance > 0) || !(discharges[i] > 0) {
+			return s, fmt.Errorf("%w: no conveyance or discharge at stage %g", ErrExtension, h)
+		}
+		sl := math.Pow(discharges[i]/r.Conveyance, 2)
+		s.Points = append(s.Points, SlopePoint{Stage: h, Discharge: discharges[i], Conveyance: r.Conveyance, Slope: sl})
+		x[i], y[i], w[i] = h, math.Log(sl), weights[i]
+	}
+	var sw, sx, sy float64
+	for i := range x {
+		sw += w[i]
+		sx += w[i] * x[i]
+		sy += w[i] * y[i]
+	}
+	s.Centre = sx / sw
+	ym := sy / sw
+	// Weights normalised to mean 1, as in the fits.
+	for i := range w {
+		w[i] *= float64(n) / sw
+	}
+	sw = float64(n)
+	var sxx, sxy float64
+	for i := range x {
+		sxx += w[i] * (x[i] - s.Centre) * (x[i] - s.Centre)
+		sxy += w[i] * (x[i] - s.Centre) * (y[i] - ym)
+	}
+	trend := 0.0
+	if sxx > 0 {
+		trend = sxy / sxx
+	}
+	ss := 0.0
+	for i := range x {
+		r := y[i] - ym - trend*(x[i]-s.Centre)
+		ss += w[i] * r * r
+	}
+	s2 := ss / float64(n-2)
+	span := x[n-1] - x[0]
+	switch {
+	case math.Abs(trend)*span <= slopeFlat:
+		// No change of ln S over the points worth the name: constant.
+	case s2 > 0:
+		se := math.Sqrt(s2 / sxx)
+		tt := trend / se
+		s.TrendP = 2 * distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Survival(math.Abs(tt))
+	default:
+		s.TrendP = 0 // an exact line
+	}
+	df := n - 2
+	if !(s.TrendP < SlopeTrendLevel) {
+		s.Level, trend, df = true, 0, n-1
+		ss = 0
+		for i := range y {
+			ss += w[i] * (y[i] - ym) * (y[i] - ym)
+		}
+		s2 = ss / float64(df)
+	}
+	s.LogSlope, s.Trend = ym, trend
+	s.ScatterLog = math.Sqrt(s2)
+	s.LogSlopeSE = s.ScatterLog / math.Sqrt(sw)
+	s.TrendSE = math.NaN()
+	if !s.Level {
+		s.TrendSE = s.ScatterLog / math.Sqrt(sxx)
+	}
+	s.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
+	return s, nil
+}
+
+// LogSlopeAt is the fitted ln S at gauge height h.
+func (s ConveyanceSlope) LogSlopeAt(h float64) float64 {
+	return s.LogSlope + s.Trend*(h-s.Centre)
+}
+
+// At returns the extension at gauge height h with conveyance k: the
+// discharge K·√S(h), the FitBandLevel band of the fitted relation (from
+// the standard errors of ln S) and the prediction band (adding the scatter
+// of ln S), each halved in ln Q since Q ∝ √S:
+//
+//	ln Q = ln K + ½·ln S(h),   half-width t·½·√(SE²(h) [+ s²]).
+func (s ConveyanceSlope) At(h, k float64) (q, pLo, pHi, tLo, tHi float64) {
+	if !(k > 0) {
+		return 0, math.NaN(), math.NaN(), math.NaN(), math.NaN()
+	}
+	ls := s.LogSlopeAt(h)
+	v := s.LogSlopeSE * s.LogSlopeSE
+	if !s.Level {
+		v += (h - s.Centre) * (h - s.Centre) * s.TrendSE * s.TrendSE
+	}
+	lq := math.Log(k) + 0.5*ls
+	hp := s.tq * 0.5 * math.Sqrt(v)
+	ht := s.tq * 0.5 * math.Sqrt(v+s.ScatterLog*s.ScatterLog)
+	return math.Exp(lq), math.Exp(lq - hp), math.Exp(lq + hp), math.Exp(lq - ht), math.Exp(lq + ht)
+}
+
+// upperGaugings returns the stages, discharges and weights of the gaugings
+// the extension is fitted to: the top n of them when n > 0, else those on
+// the rating's top control (at or above its breakpoint) or, with one
+// control, the upper half of the gauged stages; never fewer than
+// ConveyanceSlopeMin (when there are that many).
+func upperGaugings(d *data, r Rating, n int) (h, q, w []float64) {
+	first := 0
+	switch {
+	case n > 0:
+		first = d.n() - n
+	case len(r.Controls) > 1:
+		first = sort.SearchFloat64s(d.h, r.Controls[len(r.Controls)-1].From)
+	default:
+		first = sort.SearchFloat64s(d.h, 0.5*(d.lo+d.hi))
+	}
+	first = max(0, min(first, d.n()-ConveyanceSlopeMin))
+	for i := first; i < d.n(); i++ {
+		h = append(h, d.h[i])
+		q = append(q, math.Exp(d.y[i]))
+		w = append(w, d.w[i])
+	}
+	return h, q, w
+}

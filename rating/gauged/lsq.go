@@ -1,0 +1,814 @@
+package gauged
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/stat/distuv"
+
+	"wetline/rating"
+)
+
+// Method is how a rating of controls was estimated.
+type Method int
+
+// Methods. The zero value is LeastSquares.
+const (
+	// LeastSquares: weighted least squares in ln Q ("lsq").
+	LeastSquares Method = iota
+	// Bayesian: posterior of the parameters given priors and gaugings ("bayes").
+	Bayesian
+)
+
+// String returns "lsq" or "bayes".
+func (m Method) String() string {
+	if m == Bayesian {
+		return "bayes"
+	}
+	return "lsq"
+}
+
+// ErrMethod is returned for an unknown method word.
+var ErrMethod = errors.New("method must be lsq or bayes")
+
+// ParseMethod reads "lsq" or "bayes" (any case).
+func ParseMethod(s string) (Method, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "lsq":
+		return LeastSquares, nil
+	case "bayes":
+		return Bayesian, nil
+	}
+	return LeastSquares, fmt.Errorf("%q: %w", s, ErrMethod)
+}
+
+// ControlSpec says what is known of one control before a fit.
+type ControlSpec struct {
+	// Kind is what physically controls the stage (sets the exponent range
+	// and the source of a Bayesian prior).
+	Kind ControlKind
+	// Joint is how the control joins the one below (ignored for the first).
+	Joint Joint
+}
+
+// ControlOptions configure a fit of a rating of controls. The zero value
+// fits one control of unknown kind with its offset fitted, to every
+// gauging.
+type ControlOptions struct {
+	// Controls describes the controls, lowest first: 1 to MaxControls
+	// (default one control of unknown kind).
+	Controls []ControlSpec
+	// Breaks, when given, are the breakpoints (gauge height, length unit),
+	// ascending, one fewer than the controls; nil fits them.
+	Breaks []float64
+	// OffsetFixed holds the first control's offset at Offset (gauge
+	// height, length unit); OffsetSource says where it came from
+	// (default "given").
+	OffsetFixed  bool
+	Offset       float64
+	OffsetSource string
+	// Units is the unit system of stage and discharge (for messages).
+	Units rating.Units
+	// Selection chooses the gaugings.
+	Selection Selection
+}
+
+// ErrControlOptions is returned for controls or breakpoints a fit cannot use.
+var ErrControlOptions = errors.New("controls must be 1 to 4, with breakpoints ascending, one fewer than the controls")
+
+// specs returns the kinds and joints the options describe.
+func (o ControlOptions) specs() ([]ControlKind, []Joint, error) {
+	cs := o.Controls
+	if len(cs) == 0 {
+		n := len(o.Breaks) + 1
+		cs = make([]ControlSpec, n)
+	}
+	if len(cs) > MaxControls || (o.Breaks != nil && len(o.Breaks) != len(cs)-1) {
+		return nil, nil, fmt.Errorf("%w (%d controls and %d breakpoints)", ErrControlOptions, len(cs), len(o.Breaks))
+	}
+	for i, b := range o.Breaks {
+		if !finite(b) || (i > 0 && !(b > o.Breaks[i-1])) {
+			return nil, nil, fmt.Errorf("%w: breakpoints %v", ErrControlOptions, o.Breaks)
+		}
+	}
+	if o.OffsetFixed && !finite(o.Offset) {
+		return nil, nil, fmt.Errorf("%w: offset %g", ErrControlOptions, o.Offset)
+	}
+	kinds := make([]ControlKind, len(cs))
+	joints := make([]Joint, len(cs))
+	for i, c := range cs {
+		kinds[i], joints[i] = c.Kind, c.Joint
+	}
+	joints[0] = Replace
+	return kinds, joints, nil
+}
+
+// FittedControl is a control of a fitted rating with its uncertainty.
+type FittedControl struct {
+	Control
+	// ASE, BSE, CSE and FromSE are the standard errors of A, B, C and From
+	// (units of each; least squares: delta method; Bayesian: posterior
+	// standard deviations); NaN when held fixed or not available.
+	ASE, BSE, CSE, FromSE float64
+}
+
+// ControlFit is a rating of controls fitted to gaugings, by least squares
+// (FitControls) or by Bayesian inference (FitBayes).
+type ControlFit struct {
+	// Method is how the rating was estimated.
+	Method Method
+	// Units is the unit system of stages and discharges.
+	Units rating.Units
+	// Rating is the estimate: the least-squares solution, or the
+	// posterior mode of a Bayesian fit.
+	Rating Rating
+	// Controls are Rating's controls with their uncertainties.
+	Controls []FittedControl
+	// OffsetFixed reports a first offset held fixed; OffsetSource says
+	// where it came from ("fitted", "given", ...).
+	OffsetFixed  bool
+	OffsetSource string
+	// BreaksFixed reports breakpoints that were given.
+	BreaksFixed bool
+	// StandardErrorLog is the weighted standard error of estimate s in
+	// ln Q, √(Σwᵢrᵢ²/(n − p)) with weights normalised to mean 1, p the
+	// rating's fitted parameters (Bayesian: at the posterior mode; NaN
+	// when n ≤ p); StandardErrorPercent is 100·sinh(s).
+	StandardErrorLog, StandardErrorPercent float64
+	// N is the number of gaugings fitted, Params the number of parameters
+	// moved by the fit.
+	N, Params int
+	// LowStage and HighStage are the lowest and highest gauging fitted
+	// (gauge height, length unit); MaxDischarge the largest fitted discharge.
+	LowStage, HighStage, MaxDischarge float64
+	// Residuals holds every gauging's departure from Rating, in input
+	// order, those left out marked Excluded with their reason.
+	Residuals []Residual
+	// Tests are the ISO 1100-2 tests of the relation on the fitted
+	// gaugings' departures ln Q − ln Q_rating, in order of stage.
+	Tests RelationTests
+	// Johnson is Johnson's three-point estimate of the first offset, a
+	// check on the fitted one.
+	Johnson JohnsonEstimate
+	// Posterior is the Bayesian posterior (nil for least squares).
+	Posterior *Posterior
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+
+	m     *model
+	d     *data
+	x     []float64     // free parameters at the estimate
+	scale []float64     // scale of each free parameter
+	cov   *mat.SymDense // covariance of x (least squares)
+	tq    float64       // Student quantile of the bands (least squares)
+}
+
+// Tolerances and grids of the least-squares fit of controls.
+const (
+	// JohnsonCheckFraction: Johnson's estimate and the fitted first offset
+	// differing by more than this fraction of the first control's gauged
+	// depth (highest gauging on it less the offset) is a warning (a
+	// project choice).
+	JohnsonCheckFraction = 0.25
+	// offsetGrid is the number of trial offsets of a profile.
+	offsetGrid = 48
+	// offsetDecades spans the trial offsets below the lowest stage of a
+	// control: 10^−4 to 10^2 stage spans.
+	offsetLowDecade, offsetHighDecade = -4.0, 2.0
+	// minSpanFraction floors the scale of stages at this fraction of the
+	// largest stage magnitude (gaugings bunched at one stage).
+	minSpanFraction = 0.01
+	// minSpan floors a stage span or depth (length unit) where a
+	// logarithm or a division needs it positive.
+	minSpan = 1e-6
+	// addStartShare is the share of the rating below that an added control
+	// starts from at the highest gauging when its gaugings say nothing.
+	addStartShare = 0.01
+)
+
+// breakCandidates bounds the trial breakpoints per break, by number of controls.
+var breakCandidates = [MaxControls + 1]int{0, 0, 24, 16, 12}
+
+// lsqProblem is a least-squares fit in progress.
+type lsqProblem struct {
+	m        *model
+	d        *data
+	opt      ControlOptions
+	scale    []float64
+	fitBreak bool
+}
+
+// FitControls fits a rating of one to MaxControls controls to gaugings by
+// weighted least squares in ln Q,
+//
+//	minimise Σ wᵢ·(ln Qᵢ − ln Q(hᵢ; θ))²,   wᵢ ∝ 1/σᵢ²,
+//
+// with Q(h; θ) the rating of NewRating (each control its own offset,
+// continuous at the breakpoints) and σᵢ each gauging's LogSigma. Starts:
+// for every trial set of breakpoints (the given ones, or midpoints between
+// gaugings leaving each control MinPerSegment of them), the first offset
+// by a profile over trial offsets (Johnson's estimate among them) and each
+// later control by a profile over its own offset under continuity; the
+// best few are polished by Nelder–Mead and Levenberg–Marquardt. Standard
+// errors by the delta method from s²·(JᵀWJ)⁻¹.
+//
+// Gaugings left out by opt.Selection, their Exclude text or zero discharge
+// are not fitted but get their departures. Errors: ErrControlOptions,
+// ErrGauging, ErrBelowZero (a gauging at or below a fixed offset),
+// ErrFewGaugings.
+//
+// References:
+//
+//	ISO 18320:2020. Hydrometry — Measurement of liquid flow in open
+//	channels — Determination of the stage–discharge relationship
+//	(power-law controls).
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. USGS
+//	TWRI 3-A10.
+//	Seber, G. A. F., Wild, C. J. (1989). Nonlinear Regression. Wiley,
+//	chapter 5 (standard errors and bands by linearisation; from memory).
+func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
+	p, reasons, warn, err := newLSQProblem(gs, opt)
+	if err != nil {
+		return nil, err
+	}
+	x, ssr, err := p.solveFrom(p.starts())
+	if err != nil {
+		return nil, err
+	}
+	f := &ControlFit{Method: LeastSquares, Units: opt.Units, OffsetFixed: opt.OffsetFixed, BreaksFixed: opt.Breaks != nil,
+		m: p.m, d: p.d, x: x, scale: p.scale, Warnings: warn}
+	f.OffsetSource = "fitted"
+	if opt.OffsetFixed {
+		f.OffsetSource = opt.OffsetSource
+		if f.OffsetSource == "" {
+			f.OffsetSource = "given"
+		}
+	}
+	f.finishLSQ(ssr)
+	f.finishCommon(gs, reasons)
+	return f, nil
+}
+
+// newLSQProblem checks the options and gaugings and lays out the model.
+func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []string, error) {
+	kinds, joints, err := opt.specs()
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	d, reasons, warn, err := selectGaugings(gs, opt.Selection)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	m := newModel(kinds, joints)
+	k := m.k()
+	for j := 0; j < k; j++ {
+		m.free = append(m.free, m.iLnA(j), m.iC(j))
+	}
+	if opt.OffsetFixed {
+		m.base[m.iB()] = opt.Offset
+		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+			return nil, nil, nil, err
+		}
+	} else {
+		m.free = append(m.free, m.iB())
+	}
+	if opt.Breaks != nil {
+		for j, b := range opt.Breaks {
+			m.base[m.iBreak(j+1)] = b
+		}
+	} else {
+		for j := 1; j < k; j++ {
+			m.free = append(m.free, m.iBreak(j))
+		}
+	}
+	sort.Ints(m.free)
+	n, np := d.n(), len(m.free)
+	if n < np+1 || n < k*MinPerSegment {
+		return nil, nil, nil, fmt.Errorf("%w: %d gaugings used for %d parameters and %d controls of at least %d gaugings each",
+			ErrFewGaugings, n, np, k, MinPerSegment)
+	}
+	if !(d.hi > d.lo) {
+		return nil, nil, nil, fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
+	}
+	p := &lsqProblem{m: m, d: d, opt: opt, fitBreak: opt.Breaks == nil && k > 1}
+	if opt.Breaks != nil && !p.segmentsHold(opt.Breaks) {
+		return nil, nil, nil, fmt.Errorf("%w: the breakpoints %v leave a control with fewer than %d of the gaugings (%g to %g)",
+			ErrControlOptions, opt.Breaks, MinPerSegment, d.lo, d.hi)
+	}
+	p.scale = scales(m, d)
+	return p, reasons, warn, nil
+}
+
+// aboveOffset returns an ErrBelowZero error naming every used gauging at
+// or below a fixed offset.
+func aboveOffset(gs []Gauging, d *data, offset float64) error {
+	var errs []error
+	for i, h := range d.h {
+		if !(h > offset) {
+			g := gs[d.index[i]]
+			errs = append(errs, fmt.Errorf("%s: stage %g: %w %g", g.label(), h, ErrBelowZero, offset))
+		}
+	}
+	return errors.Join(errs...)
+}
+
+// scales returns the scale of each free parameter: 1 for ln A and C, the
+// gauged stage span (at least 1 % of the largest stage magnitude) for
+// offsets and breakpoints.
+func scales(m *model, d *data) []float64 {
+	span := math.Max(d.hi-d.lo, minSpanFraction*math.Max(math.Abs(d.hi), math.Abs(d.lo)))
+	if !(span > 0) {
+		span = 1
+	}
+	s := make([]float64, len(m.free))
+	for j, i := range m.free {
+		s[j] = 1
+		if m.isStage(i) {
+			s[j] = span
+		}
+	}
+	return s
+}
+
+// segmentsHold reports that breakpoints leave every control MinPerSegment
+// gaugings.
+func (p *lsqProblem) segmentsHold(breaks []float64) bool {
+	lo := math.Inf(-1)
+	for _, b := range breaks {
+		if p.d.countIn(lo, b) < MinPerSegment {
+			return false
+		}
+		lo = b
+	}
+	return p.d.countIn(lo, math.Inf(1)) >= MinPerSegment
+}
+
+// residuals returns √wᵢ·(ln Qᵢ − ln Q(hᵢ)) at free parameters x, nil
+// where x makes no admissible rating.
+func (p *lsqProblem) residuals(x []float64) []float64 {
+	full := p.m.full(x)
+	if p.fitBreak {
+		br := make([]float64, p.m.k()-1)
+		for j := range br {
+			br[j] = full[p.m.iBreak(j+1)]
+		}
+		if !sort.Float64sAreSorted(br) || !p.segmentsHold(br) {
+			return nil
+		}
+	}
+	r, ok := p.m.rating(full)
+	if !ok {
+		return nil
+	}
+	out := make([]float64, p.d.n())
+	for i, h := range p.d.h {
+		lq := logQ(r, h)
+		if math.IsInf(lq, 0) || math.IsNaN(lq) {
+			return nil
+		}
+		out[i] = math.Sqrt(p.d.w[i]) * (p.d.y[i] - lq)
+	}
+	return out
+}
+
+// solveFrom finds the least-squares parameters from starts (full vectors).
+func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
+	if len(starts) == 0 {
+		return nil, 0, fmt.Errorf("%w: no admissible start (check the breakpoints and the spread of stages)", ErrFewGaugings)
+	}
+	obj := func(x []float64) float64 { return sumSq(p.residuals(x)) }
+	var best []float64
+	bestF := math.Inf(1)
+	for _, full := range starts {
+		x := p.m.freeOf(full)
+		x, _ = nelderMead(obj, x, p.scale)
+		x, _ = levenberg(p.residuals, x, p.scale)
+		x, _ = nelderMead(obj, x, p.scale)
+		x, f := levenberg(p.residuals, x, p.scale)
+		if f < bestF {
+			best, bestF = x, f
+		}
+	}
+	if best == nil || math.IsInf(bestF, 1) {
+		return nil, 0, fmt.Errorf("%w: the gaugings do not determine the controls", ErrFewGaugings)
+	}
+	return best, bestF, nil
+}
+
+// lsqStart is a start of the search and its sum of squares.
+type lsqStart struct {
+	full []float64
+	ssr  float64
+}
+
+// starts returns the full vectors of the best starts, best first.
+func (p *lsqProblem) starts() [][]float64 {
+	keep := 1
+	if p.fitBreak {
+		keep = multiStart
+	}
+	var top []lsqStart
+	for _, br := range p.breakSets() {
+		full, ok := p.sequential(br)
+		if !ok {
+			continue
+		}
+		ssr := sumSq(p.residuals(p.m.freeOf(full)))
+		if math.IsInf(ssr, 1) {
+			continue
+		}
+		top = append(top, lsqStart{full, ssr})
+		sort.SliceStable(top, func(a, b int) bool { return top[a].ssr < top[b].ssr })
+		if len(top) > keep {
+			top = top[:keep]
+		}
+	}
+	out := make([][]float64, len(top))
+	for i, s := range top {
+		out[i] = s.full
+	}
+	return out
+}
+
+// breakSets returns the trial sets of breakpoints: the given ones, or
+// combinations of midpoints between gaugings.
+func (p *lsqProblem) breakSets() [][]float64 {
+	k := p.m.k()
+	if k == 1 {
+		return [][]float64{nil}
+	}
+	if !p.fitBreak {
+		return [][]float64{p.opt.Breaks}
+	}
+	h := p.d.h
+	var mids []float64
+	for i := MinPerSegment - 1; i < len(h)-MinPerSegment; i++ {
+		if h[i+1] > h[i] {
+			mids = append(mids, 0.5*(h[i]+h[i+1]))
+		}
+	}
+	var cands []float64
+	step := math.Max(1, float64(len(mids))/float64(breakCandidates[k]))
+	for x := 0.0; int(x) < len(mids); x += step {
+		cands = append(cands, mids[int(x)])
+	}
+	var sets [][]float64
+	var walk func(from int, cur []float64)
+	walk = func(from int, cur []float64) {
+		if len(cur) == k-1 {
+			if p.segmentsHold(cur) {
+				sets = append(sets, append([]float64(nil), cur...))
+			}
+			return
+		}
+		for i := from; i < len(cands); i++ {
+			walk(i+1, append(cur, cands[i]))
+		}
+	}
+	walk(0, nil)
+	return sets
+}
+
+// trialOffsets returns trial offsets below stage lo: lo − span·10^u for u
+// evenly from offsetLowDecade to offsetHighDecade, with extra ones.
+func trialOffsets(lo, span float64, extra ...float64) []float64 {
+	out := make([]float64, 0, offsetGrid+len(extra))
+	for i := 0; i < offsetGrid; i++ {
+		u := offsetLowDecade + (offsetHighDecade-offsetLowDecade)*float64(i)/float64(offsetGrid-1)
+		out = append(out, lo-span*math.Pow(10, u))
+	}
+	for _, e := range extra {
+		if e < lo && finite(e) {
+			out = append(out, e)
+		}
+	}
+	return out
+}
+
+// sequential builds a start for breakpoints br: the first control by a
+// profile over its offset on its own gaugings, then each later control on
+// its gaugings given the ones below. ok is false when a control has too
+// few gaugings.
+func (p *lsqProblem) sequential(br []float64) ([]float64, bool) {
+	m, d := p.m, p.d
+	k := m.k()
+	full := append([]float64(nil), m.base...)
+	for j, b := range br {
+		full[m.iBreak(j+1)] = b
+	}
+	edge := func(j int) (float64, float64) {
+		lo, hi := math.Inf(-1), math.Inf(1)
+		if j > 0 {
+			lo = br[j-1]
+		}
+		if j < k-1 {
+			hi = br[j]
+		}
+		return lo, hi
+	}
+	span := math.Max(d.hi-d.lo, minSpan)
+	lo0, hi0 := edge(0)
+	h0, y0, w0 := d.slice(lo0, hi0)
+	if len(h0) < 2 {
+		return nil, false
+	}
+	var offs []float64
+	if p.opt.OffsetFixed {
+		offs = []float64{p.opt.Offset}
+	} else {
+		je := johnsonFromData(d, hi0)
+		offs = trialOffsets(h0[0], span, je.ZeroFlow)
+	}
+	best := math.Inf(1)
+	for _, b := range offs {
+		lnA, c, ssr, ok := powerFit(h0, y0, w0, b)
+		if ok && ssr < best {
+			best = ssr
+			full[m.iLnA(0)], full[m.iC(0)], full[m.iB()] = lnA, c, b
+		}
+	}
+	if math.IsInf(best, 1) {
+		return nil, false
+	}
+	for j := 1; j < k; j++ {
+		lo, hi := edge(j)
+		hs, ys, ws := d.slice(lo, hi)
+		if len(hs) < 2 {
+			return nil, false
+		}
+		below, ok := p.m.ratingUpTo(full, j-1)
+		if !ok {
+			return nil, false
+		}
+		var lnA, c float64
+		if m.joints[j] == Add {
+			lnA, c = addStart(below, j-1, br[j-1], hs, ys, ws)
+		} else {
+			lnA, c, ok = replaceStart(below.upTo(j-1, br[j-1]), br[j-1], hs, ys, ws, span)
+			if !ok {
+				return nil, false
+			}
+		}
+		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
+	}
+	return full, true
+}
+
+// slice returns the stages, ln Q and weights of the gaugings with
+// lo ≤ h < hi.
+func (d *data) slice(lo, hi float64) (h, y, w []float64) {
+	a, b := sort.SearchFloat64s(d.h, lo), sort.SearchFloat64s(d.h, hi)
+	return d.h[a:b], d.y[a:b], d.w[a:b]
+}
+
+// ratingUpTo builds the rating of controls 0..j of a full vector.
+func (m *model) ratingUpTo(full []float64, j int) (Rating, bool) {
+	sub := &model{kinds: m.kinds[:j+1], joints: m.joints[:j+1]}
+	p := make([]float64, sub.fullLen())
+	for i := 0; i <= j; i++ {
+		p[sub.iLnA(i)], p[sub.iC(i)] = full[m.iLnA(i)], full[m.iC(i)]
+		if i > 0 {
+			p[sub.iBreak(i)] = full[m.iBreak(i)]
+		}
+	}
+	p[sub.iB()] = full[m.iB()]
+	return sub.rating(p)
+}
+
+// powerFit fits ln Q = ln A + C·ln(h − b) by weighted least squares with b
+// given; ok is false when b is not below every stage or the line is
+// undetermined.
+func powerFit(h, y, w []float64, b float64) (lnA, c, ssr float64, ok bool) {
+	var sw, sx, sy float64
+	x := make([]float64, len(h))
+	for i := range h {
+		if !(h[i] > b) {
+			return 0, 0, 0, false
+		}
+		x[i] = math.Log(h[i] - b)
+		sw += w[i]
+		sx += w[i] * x[i]
+		sy += w[i] * y[i]
+	}
+	xm, ym := sx/sw, sy/sw
+	var sxx, sxy float64
+	for i := range x {
+		sxx += w[i] * (x[i] - xm) * (x[i] - xm)
+		sxy += w[i] * (x[i] - xm) * (y[i] - ym)
+	}
+	if !(sxx > 0) {
+		return 0, 0, 0, false
+	}
+	c = sxy / sxx
+	lnA = ym - c*xm
+	for i := range x {
+		r := y[i] - lnA - c*x[i]
+		ssr += w[i] * r * r
+	}
+	return lnA, c, ssr, c > 0
+}
+
+// replaceStart fits a replacing control through q0 at breakpoint kappa to
+// gaugings above it: ln Q = ln q0 + C·ln((h − b)/(κ − b)), C by weighted
+// least squares through the origin and b by a profile below κ.
+func replaceStart(q0, kappa float64, h, y, w []float64, span float64) (lnA, c float64, ok bool) {
+	best := math.Inf(1)
+	l0 := math.Log(q0)
+	for _, b := range trialOffsets(kappa, span) {
+		var sxx, sxy float64
+		xk := math.Log(kappa - b)
+		for i := range h {
+			x := math.Log(h[i]-b) - xk
+			sxx += w[i] * x * x
+			sxy += w[i] * x * (y[i] - l0)
+		}
+		if !(sxx > 0) {
+			continue
+		}
+		cc := sxy / sxx
+		if !(cc > 0) {
+			continue
+		}
+		var ssr float64
+		for i := range h {
+			r := y[i] - l0 - cc*(math.Log(h[i]-b)-xk)
+			ssr += w[i] * r * r
+		}
+		if ssr < best {
+			best, c, lnA = ssr, cc, l0-cc*xk
+		}
+	}
+	return lnA, c, !math.IsInf(best, 1)
+}
+
+// addStartExponent is the exponent an added control starts from when its
+// gaugings say nothing (a wide channel, 5/3).
+const addStartExponent = 5.0 / 3
+
+// addStart fits an added control to what the gaugings above its
+// breakpoint carry beyond the rating below: ln(Q − Q_below) = ln A +
+// C·ln(h − κ) on the gaugings where that excess is positive; with fewer
+// than two, C = 5/3 and A giving addStartShare of the rating below at the
+// highest of them.
+func addStart(below Rating, j int, kappa float64, h, y, w []float64) (lnA, c float64) {
+	var hs, ys, ws []float64
+	for i := range h {
+		if ex := math.Exp(y[i]) - below.upTo(j, h[i]); ex > 0 && h[i] > kappa {
+			hs, ys, ws = append(hs, h[i]), append(ys, math.Log(ex)), append(ws, w[i])
+		}
+	}
+	if len(hs) >= 2 {
+		if lnA, c, _, ok := powerFit(hs, ys, ws, kappa); ok {
+			return lnA, c
+		}
+	}
+	top := h[len(h)-1]
+	c = addStartExponent
+	q := addStartShare * below.upTo(j, top)
+	return math.Log(q) - c*math.Log(math.Max(top-kappa, minSpan)), c
+}
+
+// finishLSQ fills the least-squares statistics: s, covariance, standard
+// errors.
+func (f *ControlFit) finishLSQ(ssr float64) {
+	f.N, f.Params = f.d.n(), len(f.x)
+	df := f.N - f.Params
+	s2 := ssr / float64(df)
+	f.StandardErrorLog = math.Sqrt(s2)
+	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
+	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
+	r, _ := f.m.rating(f.m.full(f.x))
+	f.Rating = r
+	lq := func(x []float64) []float64 {
+		r, ok := f.m.rating(f.m.full(x))
+		if !ok {
+			return nil
+		}
+		out := make([]float64, f.d.n())
+		for i, h := range f.d.h {
+			out[i] = math.Sqrt(f.d.w[i]) * logQ(r, h)
+		}
+		return out
+	}
+	f0 := lq(f.x)
+	if jac := jacobian(lq, f.x, f.scale, f0); jac != nil && s2 > 0 {
+		var jtj mat.SymDense
+		jtj.SymOuterK(1, jac.T())
+		var ch mat.Cholesky
+		if ch.Factorize(&jtj) {
+			var inv mat.SymDense
+			if err := ch.InverseTo(&inv); err == nil {
+				inv.ScaleSym(s2, &inv)
+				f.cov = &inv
+			}
+		}
+	}
+	if f.cov == nil && s2 > 0 {
+		f.Warnings = append(f.Warnings, "the parameters are not all determined by the gaugings: standard errors and bands are not available")
+	}
+	f.Controls = f.controlsWithSE(func(g []float64) float64 {
+		if f.cov == nil {
+			return math.NaN()
+		}
+		v := mat.NewVecDense(len(g), g)
+		return math.Sqrt(mat.Inner(v, f.cov, v))
+	})
+}
+
+// controlsWithSE returns the rating's controls with standard errors from
+// se, which maps a gradient in the free parameters to a standard error.
+func (f *ControlFit) controlsWithSE(se func([]float64) float64) []FittedControl {
+	k := f.m.k()
+	derived := func(x []float64) []float64 {
+		r, ok := f.m.rating(f.m.full(x))
+		if !ok {
+			return nil
+		}
+		out := make([]float64, 0, 4*k)
+		for _, c := range r.Controls {
+			out = append(out, c.A, c.B, c.C, c.From)
+		}
+		return out
+	}
+	d0 := derived(f.x)
+	jac := jacobian(derived, f.x, f.scale, d0)
+	out := make([]FittedControl, k)
+	for j, c := range f.Rating.Controls {
+		fc := FittedControl{Control: c, ASE: math.NaN(), BSE: math.NaN(), CSE: math.NaN(), FromSE: math.NaN()}
+		if jac != nil {
+			for q, dst := range []*float64{&fc.ASE, &fc.BSE, &fc.CSE, &fc.FromSE} {
+				g := mat.Row(nil, 4*j+q, jac)
+				if !allZero(g) {
+					*dst = se(g)
+				}
+			}
+		}
+		out[j] = fc
+	}
+	return out
+}
+
+// allZero reports a slice of zeros.
+func allZero(v []float64) bool {
+	for _, x := range v {
+		if x != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// finishCommon fills what both methods report: residuals of every
+// gauging, the tests of the relation, Johnson's check and warnings.
+func (f *ControlFit) finishCommon(gs []Gauging, reasons []string) {
+	d := f.d
+	f.LowStage, f.HighStage, f.MaxDischarge = d.lo, d.hi, d.qmax
+	f.N = d.n()
+	weight := make(map[int]float64, d.n())
+	for i, idx := range d.index {
+		weight[idx] = d.w[i]
+	}
+	f.Residuals = make([]Residual, len(gs))
+	for i, g := range gs {
+		r := residualOf(g, f.Rating.Discharge(g.Stage), func(q float64) float64 {
+			h, err := f.Rating.Stage(q)
+			if err != nil {
+				return math.NaN()
+			}
+			return h
+		})
+		r.Weight = weight[i]
+		if reasons[i] != "" {
+			r.Excluded, r.ExcludedReason, r.Weight = true, reasons[i], 0
+		}
+		f.Residuals[i] = r
+	}
+	dep := make([]float64, d.n())
+	for i, h := range d.h {
+		dep[i] = d.y[i] - logQ(f.Rating, h)
+	}
+	f.Tests = RelationChecks(dep)
+	for _, t := range []RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+		if t.Failed {
+			f.Warnings = append(f.Warnings, fmt.Sprintf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))
+		}
+	}
+	top := math.Inf(1)
+	if len(f.Rating.Controls) > 1 {
+		top = f.Rating.Controls[1].From
+	}
+	f.Johnson = johnsonFromData(d, top)
+	if b := f.Rating.Controls[0].B; f.Johnson.OK {
+		depth := math.Min(top, d.hi) - b
+		if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
+			f.Warnings = append(f.Warnings, fmt.Sprintf(
+				"Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
+				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
+		}
+	}
+	f.Warnings = append(f.Warnings, f.Rating.ExponentWarnings()...)
+}

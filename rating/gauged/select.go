@@ -1,0 +1,137 @@
+package gauged
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+	"time"
+)
+
+// Selection chooses the gaugings a rating is fitted to: those of a rating
+// period, less those excluded by time. Gaugings with a non-blank Exclude
+// and gaugings with zero discharge are left out whatever the selection.
+// The zero value selects every gauging.
+type Selection struct {
+	// From and To bound the rating period, inclusive; a zero time leaves
+	// that end open. A gauging without a time lies outside a bounded period.
+	From, To time.Time
+	// Exclude lists times of gaugings to leave out (time.Time.Equal).
+	Exclude []time.Time
+}
+
+// Reasons a gauging is left out, as shown in reports.
+const (
+	ReasonZeroDischarge = "zero discharge (a fit in ln Q needs Q > 0)"
+	ReasonBeforePeriod  = "before the rating period"
+	ReasonAfterPeriod   = "after the rating period"
+	ReasonListed        = "excluded by time"
+)
+
+// ErrGauging is returned for a gauging that cannot enter a fit: a stage or
+// discharge that is not a finite number, a negative discharge, a negative
+// or non-finite uncertainty.
+var ErrGauging = errors.New("not a usable gauging")
+
+// Reason returns why g is left out under the selection ("" when it is
+// used): its own Exclude text first, then zero discharge, the period and
+// the list of times.
+func (s Selection) Reason(g Gauging) string {
+	switch {
+	case hasText(g.Exclude):
+		return g.Exclude
+	case g.Discharge == 0:
+		return ReasonZeroDischarge
+	case !s.From.IsZero() && (g.Time.IsZero() || g.Time.Before(s.From)):
+		return ReasonBeforePeriod
+	case !s.To.IsZero() && (g.Time.IsZero() || g.Time.After(s.To)):
+		return ReasonAfterPeriod
+	}
+	for _, t := range s.Exclude {
+		if g.Time.Equal(t) {
+			return ReasonListed
+		}
+	}
+	return ""
+}
+
+// hasText reports a string with other than white space.
+func hasText(s string) bool { return strings.TrimSpace(s) != "" }
+
+// data are the gaugings a fit uses, ascending in stage.
+type data struct {
+	h, y, sigma []float64 // stage, ln Q, standard uncertainty in ln Q
+	w           []float64 // 1/σ², normalised to mean 1
+	index       []int     // position of each in the caller's slice
+	lo, hi      float64   // lowest and highest stage
+	qmax        float64   // largest discharge
+}
+
+// n is the number of gaugings used.
+func (d *data) n() int { return len(d.h) }
+
+// selectGaugings checks every gauging, applies the selection and returns
+// the data of the fit, the reason each gauging is left out ("" when used)
+// and warnings (times listed that match no gauging).
+func selectGaugings(gs []Gauging, sel Selection) (*data, []string, []string, error) {
+	var errs []error
+	reasons := make([]string, len(gs))
+	type item struct {
+		h float64
+		i int
+	}
+	var use []item
+	for i, g := range gs {
+		if !finite(g.Stage) || !finite(g.Discharge) || g.Discharge < 0 || g.Uncertainty < 0 || !finite(g.Uncertainty) {
+			errs = append(errs, fmt.Errorf("%s: stage %g, discharge %g, uncertainty %g %%: %w", g.label(), g.Stage, g.Discharge, g.Uncertainty, ErrGauging))
+			continue
+		}
+		reasons[i] = sel.Reason(g)
+		if reasons[i] == "" {
+			use = append(use, item{g.Stage, i})
+		}
+	}
+	if len(errs) > 0 {
+		return nil, nil, nil, errors.Join(errs...)
+	}
+	var warn []string
+	for _, t := range sel.Exclude {
+		hit := false
+		for _, g := range gs {
+			hit = hit || g.Time.Equal(t)
+		}
+		if !hit {
+			warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", t.Format(time.RFC3339)))
+		}
+	}
+	sort.SliceStable(use, func(a, b int) bool { return use[a].h < use[b].h })
+	d := &data{}
+	var wsum float64
+	for _, u := range use {
+		g := gs[u.i]
+		s := g.LogSigma()
+		d.h = append(d.h, g.Stage)
+		d.y = append(d.y, math.Log(g.Discharge))
+		d.sigma = append(d.sigma, s)
+		d.w = append(d.w, 1/(s*s))
+		d.index = append(d.index, u.i)
+		wsum += 1 / (s * s)
+		d.qmax = math.Max(d.qmax, g.Discharge)
+	}
+	for i := range d.w {
+		d.w[i] *= float64(len(d.w)) / wsum
+	}
+	if len(d.h) > 0 {
+		d.lo, d.hi = d.h[0], d.h[len(d.h)-1]
+	}
+	return d, reasons, warn, nil
+}
+
+// finite reports a number that is neither NaN nor infinite.
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// countIn counts the gaugings with lo ≤ h < hi.
+func (d *data) countIn(lo, hi float64) int {
+	return sort.SearchFloat64s(d.h, hi) - sort.SearchFloat64s(d.h, lo)
+}
