@@ -27,7 +27,7 @@ func coverage(t testing.TB, reps int) (bayes, lsq int) {
 		t.Fatal(err)
 	}
 	section := func(n, s float64) rating.HydraulicCurve {
-		g, err := shape.Build([3]float64{n})
+		g, err := shape.Build(subdivide.PerRegion{Channel: n})
 		if err != nil {
 			t.Fatal(err)
 		}

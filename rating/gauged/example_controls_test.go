@@ -103,7 +103,7 @@ func section(spec string, n, slope float64) rating.HydraulicCurve {
 	if err != nil {
 		panic(err)
 	}
-	g, err := s.Build([3]float64{n})
+	g, err := s.Build(subdivide.PerRegion{Channel: n})
 	if err != nil {
 		panic(err)
 	}

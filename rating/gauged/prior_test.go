@@ -18,7 +18,7 @@ func built(t testing.TB, spec string, n, slope float64) rating.HydraulicCurve {
 	if err != nil {
 		t.Fatal(err)
 	}
-	g, err := s.Build([3]float64{n})
+	g, err := s.Build(subdivide.PerRegion{Channel: n})
 	if err != nil {
 		t.Fatal(err)
 	}
