@@ -5,19 +5,15 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
-	"wetline/survey"
 )
 
 // Fitting the 142 Patuxent gaugings (testdata/reference) with e fitted.
 func BenchmarkFitPatuxent(b *testing.B) {
-	gs, err := survey.ReadGaugings("../../testdata/reference/gaugings-01594440.csv", "")
-	if err != nil {
-		b.Fatal(err)
-	}
+	gs := patuxentGaugings(b)
 	for _, k := range []int{1, 2, 3} {
 		b.Run(string(rune('0'+k))+"-segments", func(b *testing.B) {
 			for b.Loop() {
-				if _, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Segments: k, Units: rating.US}); err != nil {
+				if _, err := gauged.FitPowerLaw(gs, gauged.FitOptions{Segments: k, Units: rating.US}); err != nil {
 					b.Fatal(err)
 				}
 			}

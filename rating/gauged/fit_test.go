@@ -12,7 +12,6 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
-	"wetline/survey"
 )
 
 // law returns gaugings of a segmented power law (shared offset e, continuous
@@ -210,17 +209,7 @@ func TestFitNoiseStandardErrorAndBand(t *testing.T) {
 // 2.0 ft). One power law with e = 2.0 reproduces all nine rows to the
 // published rounding of 0.01 ft³/s.
 func TestFitHydeExcerpt(t *testing.T) {
-	tab, err := survey.ReadTable("../../testdata/reference/rating-01541303-excerpt.csv", "")
-	if err != nil {
-		t.Fatal(err)
-	}
-	ch, cq := tab.Column("gauge_height"), tab.Column("discharge")
-	var gs []gauged.Gauging
-	for _, rec := range tab.Records {
-		h, _, _ := tab.Float(rec, ch)
-		q, _, _ := tab.Float(rec, cq)
-		gs = append(gs, gauged.Gauging{Stage: h, Discharge: q})
-	}
+	gs := referencePairs(t, "rating-01541303-excerpt.csv")
 	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 2.0, Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
@@ -241,18 +230,18 @@ func TestFitHydeExcerpt(t *testing.T) {
 // range, stay within 10 % of it or hold it inside the 95 % band (the measurements depart from that rating by
 // −25 % to +3 %, reference README).
 func TestFitPatuxent(t *testing.T) {
-	gs, err := survey.ReadGaugings("../../testdata/reference/gaugings-01594440.csv", "")
-	if err != nil {
-		t.Fatal(err)
+	gs := patuxentGaugings(t)
+	if len(gs) != 142 {
+		t.Fatalf("%d gaugings, want 142 (reference README)", len(gs))
 	}
-	one, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Units: rating.US})
+	one, err := gauged.FitPowerLaw(gs, gauged.FitOptions{Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !one.PoorFit || len(one.Warnings) == 0 || !strings.Contains(one.Warnings[0], "poorly") {
 		t.Errorf("one segment: poor %v, warnings %q", one.PoorFit, one.Warnings)
 	}
-	two, err := gauged.FitPowerLaw(gs.Gaugings, gauged.FitOptions{Segments: 2, Units: rating.US})
+	two, err := gauged.FitPowerLaw(gs, gauged.FitOptions{Segments: 2, Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -263,13 +252,8 @@ func TestFitPatuxent(t *testing.T) {
 	if math.Abs(two.ZeroFlow-2.0) > tq*two.ZeroFlowSE {
 		t.Errorf("e = %.3f ± %.3f does not hold the published 2.0 ft", two.ZeroFlow, two.ZeroFlowSE)
 	}
-	tab, err := survey.ReadTable("../../testdata/reference/rating-01594440.csv", "")
-	if err != nil {
-		t.Fatal(err)
-	}
-	for _, rec := range tab.Records {
-		h, _, _ := tab.Float(rec, tab.Column("gauge_height"))
-		q, _, _ := tab.Float(rec, tab.Column("discharge"))
+	for _, p := range referencePairs(t, "rating-01594440.csv") {
+		h, q := p.Stage, p.Discharge
 		if h < two.LowStage || h > two.HighStage {
 			continue
 		}
