@@ -52,7 +52,7 @@ const MinShiftSlope = -1.0
 
 // Shift diagram errors, for errors.Is.
 var (
-	ErrShiftSlope     = errors.New("the shift falls by as much as the stage rises or more (slope ds/dh ≤ −1): discharge would fall as the stage rises")
+	ErrShiftSlope     = errors.New("shift diagram refused: its slope ds/dh is −1 or steeper, so discharge would fall as the stage rises")
 	ErrShiftEmpty     = errors.New("a shift diagram needs at least one point")
 	ErrShiftNotFinite = errors.New("stage and shift must be finite numbers")
 	ErrShiftStages    = errors.New("two points of one shift diagram are at the same stage")
@@ -111,7 +111,7 @@ func (d ShiftDiagram) Validate() error {
 			return &ShiftError{Point: i, Err: fmt.Errorf("%w: stage %g follows %g", ErrShiftStages, p.Stage, prev.Stage)}
 		}
 		if slope := (p.Shift - prev.Shift) / (p.Stage - prev.Stage); slope <= MinShiftSlope {
-			return &ShiftError{Point: i, Err: fmt.Errorf("%w: %.4g from stage %g to %g", ErrShiftSlope, slope, prev.Stage, p.Stage)}
+			return &ShiftError{Point: i, Err: fmt.Errorf("%w (slope %.4g between stages %g and %g)", ErrShiftSlope, slope, prev.Stage, p.Stage)}
 		}
 	}
 	if !d.HasTaper {
@@ -123,11 +123,11 @@ func (d ShiftDiagram) Validate() error {
 		return &ShiftError{Point: -1, Taper: true, Err: ErrShiftNotFinite}
 	case d.Taper > last.Stage:
 		if slope := -last.Shift / (d.Taper - last.Stage); slope <= MinShiftSlope {
-			return &ShiftError{Point: -1, Taper: true, Err: fmt.Errorf("%w: %.4g from stage %g to the taper at %g", ErrShiftSlope, slope, last.Stage, d.Taper)}
+			return &ShiftError{Point: -1, Taper: true, Err: fmt.Errorf("%w (slope %.4g between stage %g and the taper at %g)", ErrShiftSlope, slope, last.Stage, d.Taper)}
 		}
 	case d.Taper < first.Stage:
 		if slope := first.Shift / (first.Stage - d.Taper); slope <= MinShiftSlope {
-			return &ShiftError{Point: -1, Taper: true, Err: fmt.Errorf("%w: %.4g from the taper at %g to stage %g", ErrShiftSlope, slope, d.Taper, first.Stage)}
+			return &ShiftError{Point: -1, Taper: true, Err: fmt.Errorf("%w (slope %.4g between the taper at %g and stage %g)", ErrShiftSlope, slope, d.Taper, first.Stage)}
 		}
 	default:
 		return &ShiftError{Point: -1, Taper: true, Err: fmt.Errorf("%w (taper %g, points %g to %g)", ErrTaperInside, d.Taper, first.Stage, last.Stage)}
