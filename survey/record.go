@@ -280,8 +280,7 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		return
 	}
 	var q uint16
-	if b.cq >= 0 {
-		qs := cell(b.cq)
+	if qs := cell(b.cq); len(qs) > 0 {
 		k, ok := b.quality[string(qs)]
 		if !ok {
 			if len(st.Qualities) > math.MaxUint16 {

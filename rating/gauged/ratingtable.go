@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 )
 
 // RatingPoint is one row of a stage–discharge table.
@@ -247,7 +246,7 @@ func (r *Rating) Discharge(h float64) (float64, Lookup) {
 		}
 		return r.eval(n-2, h), Extrapolated
 	}
-	i := sort.SearchFloat64s(r.h, h) // first row with stage ≥ h
+	i := searchFloats(r.h, h) // first row with stage ≥ h
 	if i == 0 {
 		return r.q[0], InTable
 	}
@@ -273,7 +272,7 @@ func (r *Rating) Stage(q float64) (float64, error) {
 		return math.NaN(), fmt.Errorf("%w: %g", ErrRatingNoDischarge, q)
 	}
 	n := len(r.q)
-	i := sort.SearchFloat64s(r.q, q) // first row with discharge ≥ q
+	i := searchFloats(r.q, q) // first row with discharge ≥ q
 	switch {
 	case i < n && r.q[i] == q:
 		return r.h[i], nil
@@ -299,6 +298,22 @@ func (r *Rating) invert(i int, q float64) (float64, error) {
 		return r.table.ZeroFlow + math.Exp(v.x0+(math.Log(q)-v.y0)/v.b), nil
 	}
 	return v.x0 + (q-v.y0)/v.b, nil
+}
+
+// searchFloats returns the first index i with xs[i] ≥ x (len(xs) when
+// none); xs ascends. It is sort.SearchFloat64s without the closure, for the
+// record's million lookups.
+func searchFloats(xs []float64, x float64) int {
+	lo, hi := 0, len(xs)
+	for lo < hi {
+		m := int(uint(lo+hi) >> 1)
+		if xs[m] < x {
+			lo = m + 1
+		} else {
+			hi = m
+		}
+	}
+	return lo
 }
 
 func finiteNumber(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

@@ -166,7 +166,10 @@ func (c curve) at(h float64) float64 {
 	if h >= c.h[n-1] {
 		return c.s[n-1]
 	}
-	i := sort.SearchFloat64s(c.h, h) // c.h[i-1] < h ≤ c.h[i]
+	i := 1 // diagrams have a few points: a scan beats a search
+	for c.h[i] < h {
+		i++
+	}
 	f := (h - c.h[i-1]) / (c.h[i] - c.h[i-1])
 	return c.s[i-1] + f*(c.s[i]-c.s[i-1])
 }
