@@ -10,8 +10,8 @@ import (
 // (both linear, no e). The common range is 1–10 m; B is 10 % above A at
 // every stage (11h/10h − 1), a difference of h m³/s.
 func TestCompareRatings(t *testing.T) {
-	a := compile(t, RatingTable{Name: "A", Points: []RatingPoint{{0, 0}, {10, 100}}})
-	b := compile(t, RatingTable{Name: "B", Points: []RatingPoint{{1, 11}, {12, 132}}})
+	a := compileRating(t, RatingTable{Name: "A", Points: []RatingPoint{{0, 0}, {10, 100}}})
+	b := compileRating(t, RatingTable{Name: "B", Points: []RatingPoint{{1, 11}, {12, 132}}})
 	c, err := CompareRatings(a, b, CompareOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -31,7 +31,7 @@ func TestCompareRatings(t *testing.T) {
 			t.Errorf("%+v", r)
 		}
 	}
-	far := compile(t, RatingTable{Points: []RatingPoint{{20, 1}, {30, 2}}})
+	far := compileRating(t, RatingTable{Points: []RatingPoint{{20, 1}, {30, 2}}})
 	if _, err := CompareRatings(a, far, CompareOptions{}); !errors.Is(err, ErrNoCommonRange) {
 		t.Errorf("disjoint ratings: %v", err)
 	}

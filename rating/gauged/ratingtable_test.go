@@ -10,7 +10,7 @@ import (
 // (round-off of a few operations on numbers near 1).
 const ratingTol = 1e-12
 
-func compile(t *testing.T, rt RatingTable) *Rating {
+func compileRating(t *testing.T, rt RatingTable) *Rating {
 	t.Helper()
 	r, err := rt.Compile()
 	if err != nil {
@@ -31,9 +31,9 @@ func compile(t *testing.T, rt RatingTable) *Rating {
 //	           Q(1.5) = 2·(1.3/0.5)² = 2·6.76 = 13.52.
 func TestRatingLogLinear(t *testing.T) {
 	pts := []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}
-	withE := compile(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2})
-	noE := compile(t, RatingTable{Points: pts})
-	extra := compile(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true})
+	withE := compileRating(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2})
+	noE := compileRating(t, RatingTable{Points: pts})
+	extra := compileRating(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true})
 	for _, tc := range []struct {
 		name string
 		r    *Rating
@@ -82,7 +82,7 @@ func TestRatingPowerLawExact(t *testing.T) {
 	for _, h := range []float64{0.3, 0.5, 0.8, 1.4, 2.2, 3.5} {
 		pts = append(pts, RatingPoint{h, law(h)})
 	}
-	r := compile(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2})
+	r := compileRating(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2})
 	for h := 0.3; h <= 3.5; h += 0.037 {
 		q, how := r.Discharge(h)
 		if how != InTable || math.Abs(q/law(h)-1) > 1e-12 {
@@ -130,7 +130,7 @@ func TestRatingValidate(t *testing.T) {
 // slice.
 func TestRatingCopies(t *testing.T) {
 	pts := []RatingPoint{{0, 0}, {1, 10}}
-	r := compile(t, RatingTable{Points: pts})
+	r := compileRating(t, RatingTable{Points: pts})
 	pts[1].Discharge = 99
 	if q, _ := r.Discharge(1); q != 10 {
 		t.Errorf("Q(1) = %v after the caller's slice changed", q)
