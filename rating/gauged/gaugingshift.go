@@ -38,7 +38,8 @@ type GaugingShift struct {
 	Shifted          float64
 	ShiftedDeparture float64
 	OutsideShifted   bool
-	// Residual is Shift − Applied: the shift the diagrams still miss.
+	// Residual is Shift − Applied (length unit): the shift the diagrams
+	// still miss.
 	Residual float64
 }
 

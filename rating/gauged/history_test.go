@@ -52,7 +52,7 @@ func TestProrationHalfway(t *testing.T) {
 			t.Errorf("%s h=%g: shift %v, want %v", tc.at.Format(time.DateOnly), tc.h, v.Shift, tc.s)
 		}
 		// Q = 10·(h + s) on the linear rating.
-		if math.Abs(v.Discharge-10*(tc.h+tc.s)) > 1e-12 || v.Effective != tc.h+v.Shift || v.Lookup != InTable {
+		if math.Abs(v.Discharge-10*(tc.h+tc.s)) > ratingTol || v.Effective != tc.h+v.Shift || v.Lookup != InTable {
 			t.Errorf("%s h=%g: %+v", tc.at.Format(time.DateOnly), tc.h, v)
 		}
 	}
@@ -117,7 +117,7 @@ func TestPeriods(t *testing.T) {
 		{march(26), 2, 20, InTable},
 	} {
 		v := r.At(tc.at, 1)
-		if v.Period != tc.period || v.Lookup != tc.how || !(math.Abs(v.Discharge-tc.q) < 1e-12 || math.IsNaN(tc.q) && math.IsNaN(v.Discharge)) {
+		if v.Period != tc.period || v.Lookup != tc.how || !(math.Abs(v.Discharge-tc.q) < ratingTol || math.IsNaN(tc.q) && math.IsNaN(v.Discharge)) {
 			t.Errorf("%s: %+v, want period %d Q %v (%v)", tc.at.Format(time.DateOnly), v, tc.period, tc.q, tc.how)
 		}
 	}
@@ -162,21 +162,21 @@ func TestCheckGaugings(t *testing.T) {
 		t.Fatal(err)
 	}
 	g := c.Gaugings[0]
-	if math.Abs(g.Rated-3.92) > 1e-12 || math.Abs(g.Departure-100*0.58/3.92) > 1e-9 || !g.Outside ||
-		math.Abs(g.Shift-0.05) > 1e-12 || g.Applied != 0 || math.Abs(g.Residual-0.05) > 1e-12 {
+	if math.Abs(g.Rated-3.92) > ratingTol || math.Abs(g.Departure-100*0.58/3.92) > percentTol || !g.Outside ||
+		math.Abs(g.Shift-0.05) > ratingTol || g.Applied != 0 || math.Abs(g.Residual-0.05) > ratingTol {
 		t.Errorf("first gauging %+v", g)
 	}
-	if s := c.Gaugings[1].Shift; math.Abs(s-0.10) > 1e-12 {
+	if s := c.Gaugings[1].Shift; math.Abs(s-0.10) > ratingTol {
 		t.Errorf("second gauging's shift %v, want 0.10", s)
 	}
 	if len(c.Visits) != 2 || len(c.Visits[0].Gaugings) != 2 {
 		t.Fatalf("visits %+v", c.Visits)
 	}
 	p := c.Visits[0].Proposal
-	if !p.Time.Equal(at) || len(p.Points) != 2 || math.Abs(p.Points[0].Shift-0.05) > 1e-12 || p.Points[1].Stage != 1.0 {
+	if !p.Time.Equal(at) || len(p.Points) != 2 || math.Abs(p.Points[0].Shift-0.05) > ratingTol || p.Points[1].Stage != 1.0 {
 		t.Errorf("proposal %+v", p)
 	}
-	if p := c.Visits[1].Proposal; len(p.Points) != 1 || math.Abs(p.Points[0].Shift) > 1e-12 {
+	if p := c.Visits[1].Proposal; len(p.Points) != 1 || math.Abs(p.Points[0].Shift) > ratingTol {
 		t.Errorf("third gauging's proposal %+v (it lies on the rating)", p)
 	}
 	// Feed the first proposal back: the first gauging is then on the
@@ -186,7 +186,7 @@ func TestCheckGaugings(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if g := c2.Gaugings[0]; math.Abs(g.Applied-0.05) > 1e-12 || math.Abs(g.ShiftedDeparture) > 1e-9 || g.OutsideShifted || math.Abs(g.Residual) > 1e-12 {
+	if g := c2.Gaugings[0]; math.Abs(g.Applied-0.05) > ratingTol || math.Abs(g.ShiftedDeparture) > percentTol || g.OutsideShifted || math.Abs(g.Residual) > ratingTol {
 		t.Errorf("with the proposal applied: %+v", g)
 	}
 }

@@ -27,8 +27,8 @@ type RatingComparison struct {
 	From, To float64
 	// Rows ascend in stage.
 	Rows []RatingDifference
-	// MaxPercent is the largest absolute percent difference and MaxStage
-	// its gauge height (NaN when no row has one).
+	// MaxPercent is the largest absolute percent difference (percent) and
+	// MaxStage its gauge height (length unit); NaN when no row has one.
 	MaxPercent, MaxStage float64
 }
 

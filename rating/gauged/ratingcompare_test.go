@@ -27,7 +27,7 @@ func TestCompareRatings(t *testing.T) {
 		t.Fatalf("%d rows with step 1, want 10", len(c.Rows))
 	}
 	for _, r := range c.Rows {
-		if math.Abs(r.Percent-10) > 1e-9 || math.Abs(r.Difference-r.Stage) > 1e-9 {
+		if math.Abs(r.Percent-10) > percentTol || math.Abs(r.Difference-r.Stage) > ratingTol*10 {
 			t.Errorf("%+v", r)
 		}
 	}

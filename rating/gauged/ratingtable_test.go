@@ -6,9 +6,15 @@ import (
 	"testing"
 )
 
-// ratingTol is the tolerance on hand-computed discharges and stages
-// (round-off of a few operations on numbers near 1).
-const ratingTol = 1e-12
+// Tolerances of the package's tests.
+const (
+	// ratingTol is the tolerance on hand-computed discharges and stages
+	// (round-off of a few operations on numbers near 1).
+	ratingTol = 1e-12
+	// percentTol is the tolerance on percent departures and differences
+	// (round-off of a ratio times 100).
+	percentTol = 1e-9
+)
 
 func compileRating(t *testing.T, rt RatingTable) *Rating {
 	t.Helper()
@@ -85,11 +91,11 @@ func TestRatingPowerLawExact(t *testing.T) {
 	r := compileRating(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2})
 	for h := 0.3; h <= 3.5; h += 0.037 {
 		q, how := r.Discharge(h)
-		if how != InTable || math.Abs(q/law(h)-1) > 1e-12 {
+		if how != InTable || math.Abs(q/law(h)-1) > ratingTol {
 			t.Fatalf("Q(%g) = %v (%v), want %v", h, q, how, law(h))
 		}
 		back, err := r.Stage(q)
-		if err != nil || math.Abs(back-h) > 1e-12 {
+		if err != nil || math.Abs(back-h) > ratingTol {
 			t.Fatalf("Stage(Q(%g)) = %v, %v", h, back, err)
 		}
 	}

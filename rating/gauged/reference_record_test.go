@@ -109,7 +109,7 @@ func TestGaugingShiftsReference(t *testing.T) {
 		after++
 		lo, hi = math.Min(lo, g.Departure), math.Max(hi, g.Departure)
 		back, _ := r.Rating(0).Discharge(g.Stage + g.Shift)
-		if math.Abs(back/g.Discharge-1) > 1e-9 || (g.Shift > 0) != (g.Departure > 0) {
+		if math.Abs(back/g.Discharge-1) > ratingTol || (g.Shift > 0) != (g.Departure > 0) {
 			t.Errorf("%s: shift %v gives %v for %v (departure %v)", g.Time.Format(time.DateOnly), g.Shift, back, g.Discharge, g.Departure)
 		}
 	}

@@ -12,9 +12,17 @@ import (
 	"wetline/rating/gauged"
 )
 
-// meanTol is the tolerance on hand-computed daily means (round-off on sums
-// of a few products near 100).
-const meanTol = 1e-9
+// Tolerances of the package's tests.
+const (
+	// meanTol is the tolerance on hand-computed daily means (round-off on
+	// sums of a few products near 100).
+	meanTol = 1e-9
+	// coverageTol is the tolerance on a fraction of a day (one division).
+	coverageTol = 1e-15
+	// integralTol is the relative tolerance between two trapezoidal sums of
+	// the same record taken in a different order.
+	integralTol = 1e-9
+)
 
 // at is a time on 1 January 2024 (UTC) given in hours (may exceed 24).
 func at(hours float64) int64 {
@@ -73,7 +81,7 @@ func TestDailyMeanUnevenWithGap(t *testing.T) {
 		t.Fatalf("%d days, want 2", len(res.Daily))
 	}
 	d := res.Daily[0]
-	if math.Abs(d.Mean-365.0/15) > meanTol || math.Abs(d.Coverage-15.0/24) > 1e-15 || d.Min != 10 || d.Max != 40 ||
+	if math.Abs(d.Mean-365.0/15) > meanTol || math.Abs(d.Coverage-15.0/24) > coverageTol || d.Min != 10 || d.Max != 40 ||
 		d.MaxTime.Unix() != at(14) || d.MinTime.Unix() != at(0) || d.Readings != 6 || d.Flags != Gap|Partial {
 		t.Errorf("day 1: %+v (flags %v)", d, d.Flags)
 	}
@@ -171,7 +179,7 @@ func TestFlags(t *testing.T) {
 	}
 	d := res.Daily[0]
 	// Covered: 01–02 and 02–03 (two hours); 00–01 and 03–06 have an end without a discharge.
-	if math.Abs(d.Coverage-2.0/24) > 1e-15 || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
+	if math.Abs(d.Coverage-2.0/24) > coverageTol || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
 		t.Errorf("day: coverage %v flags %q", d.Coverage, d.Flags)
 	}
 	if len(res.Warnings) != 3 {
@@ -197,7 +205,7 @@ func TestDaysInOffset(t *testing.T) {
 		t.Fatalf("first day %v", d.Date)
 	}
 	want := (30 + 90 + 0.5*(20+20+10.0/3)*2) / 14
-	if math.Abs(d.Mean-want) > meanTol || math.Abs(d.Coverage-14.0/24) > 1e-15 || d.Readings != 3 {
+	if math.Abs(d.Mean-want) > meanTol || math.Abs(d.Coverage-14.0/24) > coverageTol || d.Readings != 3 {
 		t.Errorf("day: %+v, want mean %v", d, want)
 	}
 	if _, err := Compute(st, r, Options{UTCOffset: 15 * time.Hour}); !errors.Is(err, ErrUTCOffset) {
@@ -233,7 +241,7 @@ func TestDailyMeansIntegrate(t *testing.T) {
 		got += d.Mean * d.Coverage * daySeconds
 		covered += d.Coverage * daySeconds
 	}
-	if math.Abs(got-want) > 1e-9*want || covered != xs[len(xs)-1] {
+	if math.Abs(got-want) > integralTol*want || covered != xs[len(xs)-1] {
 		t.Errorf("Σ daily = %v over %v s, trapezoidal %v over %v s", got, covered, want, xs[len(xs)-1])
 	}
 }
