@@ -7,6 +7,8 @@ import (
 	"time"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/rating/record"
 )
 
 // Causes of time errors in records and diagrams, for errors.Is.
@@ -15,11 +17,7 @@ var (
 	ErrSubSecond    = errors.New("fractions of a second are not kept: round the time to the second")
 	ErrTimeOrder    = errors.New("times must increase from row to row")
 	ErrRepeatedTime = errors.New("repeated time")
-	ErrUTCOffset    = errors.New("a UTC offset must be a whole number of seconds within 14 hours of UTC")
 )
-
-// MaxUTCOffset bounds the UTC offset of times written without one.
-const MaxUTCOffset = 14 * time.Hour
 
 // ParseISOTime reads an ISO 8601 date-time: a date (2024-03-05), or a date
 // and a time to the minute or second (2024-03-05T14:30, 2024-03-05
@@ -189,10 +187,11 @@ func daysFromCivil(y, m, d int64) int64 {
 	return era*146097 + doe - 719468
 }
 
-// checkOffset checks a UTC offset and returns it in seconds.
+// checkOffset checks a UTC offset as the record does (record.ErrUTCOffset)
+// and returns it in seconds.
 func checkOffset(off time.Duration) (int64, error) {
-	if off%time.Second != 0 || off > MaxUTCOffset || off < -MaxUTCOffset {
-		return 0, fmt.Errorf("%w: %v", ErrUTCOffset, off)
+	if off%time.Second != 0 || off > record.MaxUTCOffset || off < -record.MaxUTCOffset {
+		return 0, fmt.Errorf("%w: %v", record.ErrUTCOffset, off)
 	}
 	return int64(off / time.Second), nil
 }

@@ -47,7 +47,7 @@ type RatingTableOptions struct {
 	// into force (the zero time: from the beginning of any record).
 	From time.Time
 	// UTCOffset is the offset of valid_from times written without one
-	// (default 0, UTC; whole seconds within MaxUTCOffset).
+	// (default 0, UTC; whole seconds within record.MaxUTCOffset).
 	UTCOffset time.Duration
 }
 

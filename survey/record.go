@@ -29,7 +29,7 @@ type StageRecordOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).
 	Sheet string
 	// UTCOffset is the offset of times written without one (east
-	// positive; default 0, UTC; whole seconds within MaxUTCOffset).
+	// positive; default 0, UTC; whole seconds within record.MaxUTCOffset).
 	// Workbook date serials are read as times at this offset.
 	UTCOffset time.Duration
 }

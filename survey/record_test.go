@@ -12,6 +12,8 @@ import (
 	"time"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/rating/record"
 )
 
 func utcUnix(y int, m time.Month, d, hh, mm, ss int) int64 {
@@ -103,7 +105,7 @@ func TestParseStageRecordErrors(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "80 more errors not shown") || strings.Count(err.Error(), "\n") != MaxReported {
 		t.Errorf("many errors: %v", err)
 	}
-	if _, err := ParseStageRecord(strings.NewReader(head), "s.csv", StageRecordOptions{UTCOffset: 15 * time.Hour}); !errors.Is(err, ErrUTCOffset) {
+	if _, err := ParseStageRecord(strings.NewReader(head), "s.csv", StageRecordOptions{UTCOffset: 15 * time.Hour}); !errors.Is(err, record.ErrUTCOffset) {
 		t.Errorf("offset 15 h: %v", err)
 	}
 }

@@ -35,7 +35,7 @@ type ShiftTableOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).
 	Sheet string
 	// UTCOffset is the offset of times written without one (default 0,
-	// UTC; whole seconds within MaxUTCOffset).
+	// UTC; whole seconds within record.MaxUTCOffset).
 	UTCOffset time.Duration
 }
 
