@@ -1,0 +1,209 @@
+package gauged
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"time"
+)
+
+// GaugingShift is a gauging measured against the rating in force at its
+// time.
+type GaugingShift struct {
+	Gauging
+	// Period is the 0-based index of the rating period in force, -1 when
+	// none is.
+	Period int
+	// Rated is the base rating's discharge at the gauge height, unshifted
+	// (discharge unit; NaN without a rating or outside it).
+	Rated float64
+	// Departure is 100·(Q − Rated)/Rated (percent; NaN when Rated is not
+	// above zero).
+	Departure float64
+	// Outside reports a Departure outside the gauging's quality band
+	// (rating.Quality.Outside).
+	Outside bool
+	// Shift is the measured shift: the rating's gauge height for the
+	// measured discharge minus the gauge height read (length unit; NaN when
+	// the rating cannot carry the discharge or the discharge is zero).
+	Shift float64
+	// Applied is the shift the history's diagrams give at the gauging's
+	// time and gauge height (length unit; 0 without diagrams, NaN without
+	// a rating).
+	Applied float64
+	// Shifted is the discharge of the rating with the applied shift
+	// (discharge unit), ShiftedDeparture the percent departure from it and
+	// OutsideShifted whether that lies outside the quality band.
+	Shifted          float64
+	ShiftedDeparture float64
+	OutsideShifted   bool
+	// Residual is Shift − Applied (length unit): the shift the diagrams
+	// still miss.
+	Residual float64
+}
+
+// Visit is a field visit: gaugings close together in time, and the shift
+// diagram they propose.
+type Visit struct {
+	// Time is the time of the visit's first gauging.
+	Time time.Time
+	// Gaugings are indices into ShiftCheck.Gaugings, in time order.
+	Gaugings []int
+	// Proposal is a shift diagram through the visit's measured shifts (one
+	// point per gauge height, shifts measured at one gauge height averaged),
+	// dated at Time, for the user to edit; no points when the visit gives
+	// no usable shift or its shifts make a refused diagram.
+	Proposal ShiftDiagram
+}
+
+// ShiftCheck is a set of gaugings measured against a rating history.
+type ShiftCheck struct {
+	// Gaugings are in input order.
+	Gaugings []GaugingShift
+	// Visits are in time order.
+	Visits []Visit
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+}
+
+// CheckOptions configure CheckGaugings. The zero value groups gaugings
+// less than DefaultVisitGap apart into one visit.
+type CheckOptions struct {
+	// VisitGap is the longest time between consecutive gaugings of one
+	// visit (default DefaultVisitGap; ≥ 0).
+	VisitGap time.Duration
+}
+
+// DefaultVisitGap is the default longest time between gaugings of one
+// field visit (a project choice: one working day).
+const DefaultVisitGap = 12 * time.Hour
+
+// ErrVisitGap is the cause of a negative visit gap.
+var ErrVisitGap = errors.New("the visit gap must not be negative")
+
+// CheckGaugings measures every gauging against the rating in force at its
+// time: the departure from the base rating and whether it lies outside the
+// gauging's quality band, the measured shift s with Q_rating(h + s) = Q
+// (what must be added to the gauge height for the rating to pass through
+// the gauging), the shift the history's diagrams already apply there and
+// the departure that remains. Gaugings are then grouped into visits, and
+// each visit proposes a shift diagram through its measured shifts.
+//
+// References:
+//
+//	Kennedy, E.J., 1983, Computation of continuous records of streamflow:
+//	USGS Techniques of Water-Resources Investigations, book 3, chap. A13
+//	(shifts from discharge measurements).
+func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error) {
+	gap := opt.VisitGap
+	if gap < 0 {
+		return ShiftCheck{}, fmt.Errorf("%w: %v", ErrVisitGap, gap)
+	}
+	if gap == 0 {
+		gap = DefaultVisitGap
+	}
+	c := ShiftCheck{Gaugings: make([]GaugingShift, len(gs))}
+	for i, g := range gs {
+		c.Gaugings[i] = r.checkOne(g, &c.Warnings)
+	}
+	c.visits(gap)
+	return c, nil
+}
+
+// checkOne measures one gauging.
+func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
+	nan := math.NaN()
+	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan}
+	base := r.At(g.Time, g.Stage)
+	out.Period = base.Period
+	if base.Lookup == NoRating {
+		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.Format(time.RFC3339)))
+		return out
+	}
+	rt := r.periods[base.Period].rating
+	out.Rated, _ = rt.Discharge(g.Stage)
+	out.Departure, out.Outside = departure(g, out.Rated)
+	out.Applied = base.Shift
+	out.Shifted = base.Discharge
+	out.ShiftedDeparture, out.OutsideShifted = departure(g, out.Shifted)
+	if g.Discharge > 0 {
+		h, err := rt.Stage(g.Discharge)
+		if err != nil {
+			*warn = append(*warn, fmt.Sprintf("%s: no shift: %v", g.label(), err))
+		} else {
+			out.Shift = h - g.Stage
+			out.Residual = out.Shift - out.Applied
+		}
+	}
+	if math.IsNaN(out.Rated) {
+		*warn = append(*warn, fmt.Sprintf("%s: gauge height %g is outside the rating %q", g.label(), g.Stage, rt.Name()))
+	}
+	return out
+}
+
+// departure returns 100·(Q − rated)/rated and whether it lies outside the
+// gauging's band.
+func departure(g Gauging, rated float64) (float64, bool) {
+	if !(rated > 0) {
+		return math.NaN(), false
+	}
+	d := 100 * (g.Discharge - rated) / rated
+	return d, g.Quality.Outside(d)
+}
+
+// visits groups the gaugings into visits and proposes their diagrams.
+func (c *ShiftCheck) visits(gap time.Duration) {
+	idx := make([]int, len(c.Gaugings))
+	for i := range idx {
+		idx[i] = i
+	}
+	sort.SliceStable(idx, func(a, b int) bool { return c.Gaugings[idx[a]].Time.Before(c.Gaugings[idx[b]].Time) })
+	for k, i := range idx {
+		g := c.Gaugings[i]
+		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap {
+			c.Visits = append(c.Visits, Visit{Time: g.Time})
+		}
+		v := &c.Visits[len(c.Visits)-1]
+		v.Gaugings = append(v.Gaugings, i)
+	}
+	for k := range c.Visits {
+		c.propose(&c.Visits[k])
+	}
+}
+
+// propose lays a shift diagram through a visit's measured shifts.
+func (c *ShiftCheck) propose(v *Visit) {
+	type sum struct {
+		stage, shift float64
+		n            int
+	}
+	var pts []sum
+	for _, i := range v.Gaugings {
+		g := c.Gaugings[i]
+		if math.IsNaN(g.Shift) {
+			continue
+		}
+		j := sort.Search(len(pts), func(j int) bool { return pts[j].stage >= g.Stage })
+		if j < len(pts) && pts[j].stage == g.Stage {
+			pts[j].shift += g.Shift
+			pts[j].n++
+			continue
+		}
+		pts = append(pts, sum{})
+		copy(pts[j+1:], pts[j:])
+		pts[j] = sum{g.Stage, g.Shift, 1}
+	}
+	if len(pts) == 0 {
+		return
+	}
+	d := ShiftDiagram{Time: v.Time, Source: c.Gaugings[v.Gaugings[0]].Source}
+	for _, p := range pts {
+		d.Points = append(d.Points, ShiftPoint{Stage: p.stage, Shift: p.shift / float64(p.n)})
+	}
+	if err := d.Validate(); err != nil {
+		c.Warnings = append(c.Warnings, fmt.Sprintf("the visit of %s proposes no diagram: its shifts make one that is refused: %v", v.Time.Format(time.RFC3339), err))
+		return
+	}
+	v.Proposal = d
+}

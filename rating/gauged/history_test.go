@@ -1,0 +1,208 @@
+package gauged
+
+import (
+	"errors"
+	"math"
+	"testing"
+	"time"
+
+	"wetline/rating"
+)
+
+// linearRating is Q = k·h on 0 ≤ h ≤ 10 (two rows, linear between them).
+func linearRating(name string, k float64) *RatingTable {
+	return &RatingTable{Name: name, Points: []RatingPoint{{0, 0}, {10, 10 * k}}}
+}
+
+func compileHistory(t *testing.T, h History) *Rater {
+	t.Helper()
+	r, err := h.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+// TestProrationHalfway: half-way in time between two diagrams the shift is
+// the mean of the two, at every stage.
+//
+//	A (1 March): (0.5, 0.10), (1.5, 0.00)     B (11 March): (0.5, 0.04), (1.5, 0.02)
+//	6 March is half-way (5 of 10 days); at h = 1.0: s_A = 0.05, s_B = 0.03,
+//	s = 0.05 + 0.5·(0.03 − 0.05) = 0.04; at h = 0.5: 0.10 + 0.5·(0.04 − 0.10) = 0.07;
+//	at 3.5 days (0.35): h = 1.0 gives 0.05 − 0.35·0.02 = 0.043.
+//	Before A, A holds; after B, B holds.
+func TestProrationHalfway(t *testing.T) {
+	a := ShiftDiagram{Time: march(1), Points: []ShiftPoint{{0.5, 0.10}, {1.5, 0.00}}}
+	b := ShiftDiagram{Time: march(11), Points: []ShiftPoint{{0.5, 0.04}, {1.5, 0.02}}}
+	r := compileHistory(t, History{Periods: []Period{{Rating: linearRating("base", 10)}}, Shifts: []ShiftDiagram{a, b}})
+	for _, tc := range []struct {
+		at   time.Time
+		h, s float64
+	}{
+		{march(6), 1.0, 0.04},
+		{march(6), 0.5, 0.07},
+		{march(4).Add(12 * time.Hour), 1.0, 0.043},
+		{march(1), 1.0, 0.05},
+		{march(1).Add(-48 * time.Hour), 1.0, 0.05},
+		{march(11), 1.0, 0.03},
+		{march(20), 0.5, 0.04},
+	} {
+		v := r.At(tc.at, tc.h)
+		if math.Abs(v.Shift-tc.s) > shiftTol {
+			t.Errorf("%s h=%g: shift %v, want %v", tc.at.Format(time.DateOnly), tc.h, v.Shift, tc.s)
+		}
+		// Q = 10·(h + s) on the linear rating.
+		if math.Abs(v.Discharge-10*(tc.h+tc.s)) > ratingTol || v.Effective != tc.h+v.Shift || v.Lookup != InTable {
+			t.Errorf("%s h=%g: %+v", tc.at.Format(time.DateOnly), tc.h, v)
+		}
+	}
+}
+
+// TestAbruptSwitch: a diagram that starts abruptly (a flood reshaped the
+// control on 11 March) is not prorated: the previous diagram holds up to
+// the flood, the new one from it.
+//
+//	A (1 March) constant 0.10; B (11 March, abrupt) constant −0.05.
+//	10 March 23:59: 0.10 (prorated it would be 0.10 − 0.15·(9.999/10) ≈ −0.05).
+//	11 March 00:00: −0.05; just before it (the left limit): 0.10.
+//	Not abrupt, on 6 March: 0.10 + 0.5·(−0.15) = 0.025.
+func TestAbruptSwitch(t *testing.T) {
+	a := ShiftDiagram{Time: march(1), Points: []ShiftPoint{{1, 0.10}}}
+	b := ShiftDiagram{Time: march(11), Points: []ShiftPoint{{1, -0.05}}, Abrupt: true}
+	h := History{Periods: []Period{{Rating: linearRating("base", 10)}}, Shifts: []ShiftDiagram{a, b}}
+	r := compileHistory(t, h)
+	check := func(what string, got, want float64) {
+		t.Helper()
+		if math.Abs(got-want) > shiftTol {
+			t.Errorf("%s: %v, want %v", what, got, want)
+		}
+	}
+	check("6 March", r.At(march(6), 1).Shift, 0.10)
+	check("10 March 23:59", r.At(march(11).Add(-time.Minute), 1).Shift, 0.10)
+	check("11 March", r.At(march(11), 1).Shift, -0.05)
+	check("left limit at the flood", r.AtUnix(march(11).Unix(), 1, true).Shift, 0.10)
+	check("after", r.At(march(25), 1).Shift, -0.05)
+	if br := r.Breaks(); len(br) != 1 || !br[0].Equal(march(11)) {
+		t.Errorf("breaks %v, want the flood", br)
+	}
+	h.Shifts[1].Abrupt = false
+	check("6 March, prorated", compileHistory(t, h).At(march(6), 1).Shift, 0.025)
+}
+
+// TestPeriods: the rating in force follows the periods; shifts stay in
+// their period; outside every period or in a period without a rating there
+// is no discharge.
+//
+//	period 0 from 10 March: Q = 10·h; period 1 from 20 March: no rating;
+//	period 2 from 25 March: Q = 20·h.
+//	A diagram of 12 March (+0.1) shifts period 0 only, from its first day
+//	(the nearest diagram holds before it): 10 and 15 March, h = 1: Q = 11.
+//	26 March, h = 1: Q = 20 (period 2 has no diagram: no shift).
+func TestPeriods(t *testing.T) {
+	h := History{
+		Periods: []Period{{From: march(10), Rating: linearRating("one", 10)}, {From: march(20)}, {From: march(25), Rating: linearRating("two", 20)}},
+		Shifts:  []ShiftDiagram{{Time: march(5), Points: []ShiftPoint{{1, 0.3}}}, {Time: march(12), Points: []ShiftPoint{{1, 0.1}}}, {Time: march(22), Points: []ShiftPoint{{1, 0.2}}}},
+	}
+	r := compileHistory(t, h)
+	for _, tc := range []struct {
+		at     time.Time
+		period int
+		q      float64
+		how    Lookup
+	}{
+		{march(1), -1, math.NaN(), NoRating},
+		{march(10), 0, 11, InTable},
+		{march(15), 0, 11, InTable},
+		{march(21), 1, math.NaN(), NoRating},
+		{march(26), 2, 20, InTable},
+	} {
+		v := r.At(tc.at, 1)
+		if v.Period != tc.period || v.Lookup != tc.how || !(math.Abs(v.Discharge-tc.q) < ratingTol || math.IsNaN(tc.q) && math.IsNaN(v.Discharge)) {
+			t.Errorf("%s: %+v, want period %d Q %v (%v)", tc.at.Format(time.DateOnly), v, tc.period, tc.q, tc.how)
+		}
+	}
+	if r.ShiftPeriod(0) != -1 || r.ShiftPeriod(1) != 0 || r.ShiftPeriod(2) != -1 || len(r.Warnings) != 2 {
+		t.Errorf("shift periods %d %d %d, warnings %q", r.ShiftPeriod(0), r.ShiftPeriod(1), r.ShiftPeriod(2), r.Warnings)
+	}
+	if v := r.AtUnix(march(10).Unix(), 1, true); v.Lookup != NoRating {
+		t.Errorf("just before the first period: %+v", v)
+	}
+	br := r.Breaks()
+	if len(br) != 2 || !br[0].Equal(march(20)) || !br[1].Equal(march(25)) {
+		t.Errorf("breaks %v", br)
+	}
+	h.Periods[1].From = march(10)
+	if _, err := h.Compile(); !errors.Is(err, ErrPeriodOrder) {
+		t.Errorf("periods out of order: %v", err)
+	}
+}
+
+// TestCheckGaugings: a gauging's shift and departure by hand.
+//
+// Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2 (log-linear above 0.7,
+// Q = 2·((h − 0.2)/0.5)²). A good gauging at 0.90 m measuring 4.5 m³/s:
+//
+//	rated at 0.90: 2·(0.7/0.5)² = 3.92; departure 100·(4.5 − 3.92)/3.92 = 14.796 %, outside 5 %
+//	rating stage of 4.5: 0.95 (see TestRatingLogLinear); shift 0.95 − 0.90 = +0.05
+//
+// With a diagram of +0.05 in force, the shifted departure is 0. A second
+// gauging two hours later at 1.0 m, 6.48 m³/s (rated 5.12, the rating
+// stage of 6.48 is 0.2 + 0.5·√3.24 = 1.1: shift +0.10), joins the visit.
+func TestCheckGaugings(t *testing.T) {
+	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2}
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	gs := []Gauging{
+		{Time: at, Stage: 0.90, Discharge: 4.5, Quality: rating.Good, Source: "g:2"},
+		{Time: at.Add(2 * time.Hour), Stage: 1.0, Discharge: 6.48, Quality: rating.Fair, Source: "g:3"},
+		{Time: at.Add(30 * 24 * time.Hour), Stage: 0.9, Discharge: 3.92, Quality: rating.Excellent, Source: "g:4"},
+	}
+	r := compileHistory(t, History{Periods: []Period{{Rating: rt}}})
+	c, err := r.CheckGaugings(gs, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := c.Gaugings[0]
+	if math.Abs(g.Rated-3.92) > ratingTol || math.Abs(g.Departure-100*0.58/3.92) > percentTol || !g.Outside ||
+		math.Abs(g.Shift-0.05) > ratingTol || g.Applied != 0 || math.Abs(g.Residual-0.05) > ratingTol {
+		t.Errorf("first gauging %+v", g)
+	}
+	if s := c.Gaugings[1].Shift; math.Abs(s-0.10) > ratingTol {
+		t.Errorf("second gauging's shift %v, want 0.10", s)
+	}
+	if len(c.Visits) != 2 || len(c.Visits[0].Gaugings) != 2 {
+		t.Fatalf("visits %+v", c.Visits)
+	}
+	p := c.Visits[0].Proposal
+	if !p.Time.Equal(at) || len(p.Points) != 2 || math.Abs(p.Points[0].Shift-0.05) > ratingTol || p.Points[1].Stage != 1.0 {
+		t.Errorf("proposal %+v", p)
+	}
+	if p := c.Visits[1].Proposal; len(p.Points) != 1 || math.Abs(p.Points[0].Shift) > ratingTol {
+		t.Errorf("third gauging's proposal %+v (it lies on the rating)", p)
+	}
+	// Feed the first proposal back: the first gauging is then on the
+	// shifted rating.
+	r2 := compileHistory(t, History{Periods: []Period{{Rating: rt}}, Shifts: []ShiftDiagram{p}})
+	c2, err := r2.CheckGaugings(gs[:1], CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if g := c2.Gaugings[0]; math.Abs(g.Applied-0.05) > ratingTol || math.Abs(g.ShiftedDeparture) > percentTol || g.OutsideShifted || math.Abs(g.Residual) > ratingTol {
+		t.Errorf("with the proposal applied: %+v", g)
+	}
+}
+
+// A visit whose two gaugings make a diagram falling faster than the stage
+// rises proposes none, with a warning.
+func TestCheckGaugingsRefusedProposal(t *testing.T) {
+	rt := linearRating("q=10h", 10)
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	// Q = 10(h + s): at 1.0, Q 15 → s = 0.5; at 1.2, Q 12.5 → s = 0.05: slope −2.25.
+	gs := []Gauging{{Time: at, Stage: 1.0, Discharge: 15}, {Time: at.Add(time.Hour), Stage: 1.2, Discharge: 12.5}}
+	c, err := compileHistory(t, History{Periods: []Period{{Rating: rt}}}).CheckGaugings(gs, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.Visits) != 1 || c.Visits[0].Proposal.Points != nil || len(c.Warnings) != 1 {
+		t.Errorf("visits %+v warnings %q", c.Visits, c.Warnings)
+	}
+}

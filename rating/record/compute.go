@@ -1,0 +1,294 @@
+package record
+
+import (
+	"errors"
+	"fmt"
+	"time"
+
+	"wetline/rating/gauged"
+)
+
+// ProvisionalNote is stated by every report of a computed discharge record,
+// beside rating.Caution.
+const ProvisionalNote = "A computed discharge record is provisional until it has been reviewed: " +
+	"check the shifts against the gaugings, the gaps and every flagged value before it is published or used."
+
+// Options configure Compute. The zero value bridges gaps of up to
+// DefaultMaxGap and takes days in UTC.
+type Options struct {
+	// MaxGap is the longest time between two readings that is bridged
+	// (the discharge taken as linear between them); longer gaps are left
+	// uncovered. Default DefaultMaxGap; > 0, whole seconds.
+	MaxGap time.Duration
+	// UTCOffset is the offset from UTC in which calendar days are taken
+	// (east positive); default 0 (UTC); whole seconds, at most
+	// MaxUTCOffset either way.
+	UTCOffset time.Duration
+}
+
+// DefaultMaxGap is the default longest gap bridged between readings (a
+// project choice: eight missed 15-minute readings are not bridged).
+const DefaultMaxGap = 2 * time.Hour
+
+// MaxUTCOffset bounds a UTC offset (the widest in civil use is +14 h).
+const MaxUTCOffset = 14 * time.Hour
+
+// Causes of unusable options, for errors.Is.
+var (
+	ErrMaxGap    = errors.New("the maximum gap must be a positive whole number of seconds")
+	ErrUTCOffset = errors.New("the UTC offset must be a whole number of seconds within 14 hours of UTC")
+)
+
+// UnitValue is one reading of the record turned into a discharge.
+type UnitValue struct {
+	// Time is the reading's time in Unix seconds (see Result.Zone).
+	Time int64
+	// Stage is the gauge height read (length unit).
+	Stage float64
+	// Shift is the shift used (length unit; NaN without a rating).
+	Shift float64
+	// Effective is the effective gauge height Stage + Shift (length unit;
+	// NaN without a rating).
+	Effective float64
+	// Discharge is the unit discharge (discharge unit; NaN when it cannot
+	// be computed, and Flags say why).
+	Discharge float64
+	// Period is the 0-based index of the rating period in force (into
+	// Result.Periods), -1 when none.
+	Period int32
+	// Quality is the reading's quality, an index into the record's
+	// Qualities (0 for none).
+	Quality uint16
+	// Flags mark the value.
+	Flags Flag
+}
+
+// DailyValue is one calendar day of the record.
+type DailyValue struct {
+	// Date is the midnight that begins the day, in Result.Zone.
+	Date time.Time
+	// Mean is the time-weighted mean discharge over the covered part of the
+	// day (discharge unit; NaN when nothing is covered).
+	Mean float64
+	// Min and Max are the least and greatest unit discharges read in the
+	// day, at MinTime and MaxTime (NaN and the zero time when none).
+	Min, Max         float64
+	MinTime, MaxTime time.Time
+	// Coverage is the fraction of the day covered by bridged intervals with
+	// a discharge at both ends, 0 to 1.
+	Coverage float64
+	// Readings is the number of readings in the day.
+	Readings int
+	// Flags are the flags of the day's readings, Gap when an unbridged gap
+	// falls in the day, and Partial when Coverage is below 1.
+	Flags Flag
+}
+
+// PeriodUse is a rating period as the record used it.
+type PeriodUse struct {
+	gauged.Period
+	// To is when the next period begins (the zero time for the last).
+	To time.Time
+	// Readings is the number of readings rated in the period.
+	Readings int
+}
+
+// ShiftUse is a shift diagram as the record used it.
+type ShiftUse struct {
+	gauged.ShiftDiagram
+	// Period is the rating period whose shifts include it, -1 when the
+	// diagram is not used.
+	Period int
+}
+
+// Result is a computed discharge record.
+type Result struct {
+	// Name is the stage record's name.
+	Name string
+	// Units are the unit values, one per reading, in time order.
+	Units []UnitValue
+	// Daily are the calendar days from the first reading's to the last's.
+	Daily []DailyValue
+	// Qualities are the stage record's quality words (see UnitValue.Quality).
+	Qualities []string
+	// Periods and Shifts are the rating periods and shift diagrams used,
+	// with their ratings and points, for reports to state.
+	Periods []PeriodUse
+	Shifts  []ShiftUse
+	// MaxGap and UTCOffset are the options used; Zone is the fixed zone of
+	// UTCOffset, in which times are written.
+	MaxGap, UTCOffset time.Duration
+	Zone              *time.Location
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+}
+
+// Compute turns a stage record into the discharge record with the rating
+// history r: the unit values (shift, effective stage, discharge and flags
+// at every reading) and the daily values.
+//
+// A reading's shift comes from the diagrams of the rating period in force
+// at its time (prorated between them, see gauged.Rater.AtUnix); its
+// discharge from that period's rating at the effective gauge height h + s,
+// zero at or below the rating's zero-flow stage. Readings outside every
+// rating period, in a period without a rating or outside the rating table
+// (without extrapolation) have no discharge and are flagged.
+//
+// A daily mean is the time-weighted mean of the unit discharges over the
+// covered part of the day, by the trapezoidal rule between readings,
+//
+//	Q̄ = Σ ½(Qᵢ + Qᵢ₊₁)(tᵢ₊₁ − tᵢ) / Σ (tᵢ₊₁ − tᵢ),
+//
+// never the discharge of the mean stage. An interval longer than MaxGap, or
+// with no discharge at one end, is not covered. An interval that crosses
+// midnight is split there (the discharge linear in time between its
+// readings); one that crosses a rating period's beginning or an abrupt
+// shift diagram is split there too, the stage linear in time between its
+// readings and rated on each side with what is in force there.
+//
+// Errors are a *StagesError for an unusable record and ErrMaxGap or
+// ErrUTCOffset for unusable options.
+//
+// References:
+//
+//	Kennedy, E.J., 1983, Computation of continuous records of streamflow:
+//	USGS Techniques of Water-Resources Investigations, book 3, chap. A13
+//	(shift adjustments applied to the gauge-height record; daily mean
+//	discharge from unit values over subdivided days).
+func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
+	if err := st.Validate(); err != nil {
+		return nil, err
+	}
+	maxGap, off, err := opt.resolve()
+	if err != nil {
+		return nil, err
+	}
+	res := &Result{
+		Name: st.Name, Units: make([]UnitValue, len(st.Time)), Qualities: append([]string(nil), st.Qualities...),
+		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
+		Zone: zone(off),
+	}
+	res.uses(r)
+	c := newCounter(res, st, off)
+	res.unitValues(st, r, maxGap, c)
+	c.integrate(st, r, maxGap)
+	res.Daily = c.daily(res.Zone)
+	res.summarize(c)
+	return res, nil
+}
+
+// resolve checks the options and returns the maximum gap and the UTC
+// offset in seconds.
+func (o Options) resolve() (maxGap, off int64, err error) {
+	g := o.MaxGap
+	if g == 0 {
+		g = DefaultMaxGap
+	}
+	if g < 0 || g%time.Second != 0 {
+		return 0, 0, fmt.Errorf("%w: %v", ErrMaxGap, o.MaxGap)
+	}
+	if o.UTCOffset%time.Second != 0 || o.UTCOffset > MaxUTCOffset || o.UTCOffset < -MaxUTCOffset {
+		return 0, 0, fmt.Errorf("%w: %v", ErrUTCOffset, o.UTCOffset)
+	}
+	return int64(g / time.Second), int64(o.UTCOffset / time.Second), nil
+}
+
+// zone is the fixed zone of a UTC offset in seconds, named as ISO 8601
+// writes it.
+func zone(off int64) *time.Location {
+	if off == 0 {
+		return time.UTC
+	}
+	sign, a := "+", off
+	if a < 0 {
+		sign, a = "-", -a
+	}
+	name := fmt.Sprintf("UTC%s%02d:%02d", sign, a/3600, a/60%60)
+	return time.FixedZone(name, int(off))
+}
+
+// uses states the history's periods and diagrams on the result.
+func (res *Result) uses(r *gauged.Rater) {
+	h := r.History()
+	for i, p := range h.Periods {
+		u := PeriodUse{Period: p}
+		if i+1 < len(h.Periods) {
+			u.To = h.Periods[i+1].From
+		}
+		res.Periods = append(res.Periods, u)
+	}
+	for i, d := range h.Shifts {
+		res.Shifts = append(res.Shifts, ShiftUse{ShiftDiagram: d, Period: r.ShiftPeriod(i)})
+	}
+	res.Warnings = append(res.Warnings, r.Warnings...)
+}
+
+// unitValues rates every reading.
+func (res *Result) unitValues(st *Stages, r *gauged.Rater, maxGap int64, c *counter) {
+	for i, t := range st.Time {
+		h := st.Stage[i]
+		v := r.AtUnix(t, h, false)
+		u := UnitValue{Time: t, Stage: h, Shift: v.Shift, Effective: v.Effective, Discharge: v.Discharge, Period: int32(v.Period)}
+		if st.Quality != nil {
+			u.Quality = st.Quality[i]
+		}
+		u.Flags = lookupFlag[v.Lookup]
+		if v.AboveGaugings {
+			u.Flags |= AboveGaugings
+		}
+		if i > 0 && t-st.Time[i-1] > maxGap {
+			u.Flags |= Gap
+		}
+		if v.Period >= 0 && v.Lookup != gauged.NoRating {
+			res.Periods[v.Period].Readings++
+		}
+		res.Units[i] = u
+		c.reading(u)
+	}
+}
+
+// lookupFlag is the flag of each way a discharge was found.
+var lookupFlag = [...]Flag{
+	gauged.InTable:      0,
+	gauged.ZeroFlow:     BelowZeroFlow,
+	gauged.Extrapolated: Extrapolated,
+	gauged.OutsideTable: OutsideRating,
+	gauged.NoRating:     NoRating,
+}
+
+// summarize words the warnings on what the record holds.
+func (res *Result) summarize(c *counter) {
+	n := len(res.Units)
+	say := func(k int, what string) {
+		if k > 0 {
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %d readings %s", k, n, what))
+		}
+	}
+	say(c.flags[bit(NoRating)], "have no rating in force: no discharge")
+	say(c.flags[bit(OutsideRating)], "are outside the rating table: no discharge (the rating does not allow extrapolation)")
+	say(c.flags[bit(Extrapolated)], "are outside the rating table: discharge extrapolated, as the rating asks")
+	say(c.flags[bit(AboveGaugings)], "are above the highest gauging of their rating")
+	if c.gaps > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %v are not bridged (the longest %v, from %s)",
+			c.gaps, res.MaxGap, time.Duration(c.longest)*time.Second, time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
+	}
+}
+
+// bit is the index of a single flag's bit.
+func bit(f Flag) int {
+	for i := 0; i < 16; i++ {
+		if f == 1<<i {
+			return i
+		}
+	}
+	panic("record: bit of a combined flag")
+}
+
+// floorDiv is a/b rounded toward −∞ (b > 0).
+func floorDiv(a, b int64) int64 {
+	q := a / b
+	if a%b != 0 && a < 0 {
+		q--
+	}
+	return q
+}

@@ -1,0 +1,277 @@
+package record
+
+import (
+	"errors"
+	"math"
+	"math/rand/v2"
+	"testing"
+	"time"
+
+	"gonum.org/v1/gonum/integrate"
+
+	"wetline/rating/gauged"
+)
+
+// Tolerances of the package's tests.
+const (
+	// meanTol is the tolerance on hand-computed daily means (round-off on
+	// sums of a few products near 100).
+	meanTol = 1e-9
+	// coverageTol is the tolerance on a fraction of a day (one division).
+	coverageTol = 1e-15
+	// integralTol is the relative tolerance between two trapezoidal sums of
+	// the same record taken in a different order.
+	integralTol = 1e-9
+)
+
+// at is a time on 1 January 2024 (UTC) given in hours (may exceed 24).
+func at(hours float64) int64 {
+	return time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC).Unix() + int64(hours*3600)
+}
+
+// linear is the rating Q = k·h on 0 ≤ h ≤ 10 m.
+func linear(name string, k float64) *gauged.RatingTable {
+	return &gauged.RatingTable{Name: name, Points: []gauged.RatingPoint{{Stage: 0, Discharge: 0}, {Stage: 10, Discharge: 10 * k}}}
+}
+
+func rater(t *testing.T, h gauged.History) *gauged.Rater {
+	t.Helper()
+	r, err := h.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func stages(pairs ...float64) *Stages {
+	s := &Stages{Name: "test"}
+	for i := 0; i < len(pairs); i += 2 {
+		s.Time = append(s.Time, at(pairs[i]))
+		s.Stage = append(s.Stage, pairs[i+1])
+	}
+	return s
+}
+
+func compute(t *testing.T, st *Stages, r *gauged.Rater, opt Options) *Result {
+	t.Helper()
+	res, err := Compute(st, r, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
+}
+
+// TestDailyMeanUnevenWithGap: readings at uneven intervals with a gap, on
+// the rating Q = 10·h, maximum gap 4 h. Trapezoids by hand:
+//
+//	00:00 h=1 Q=10 → 03:00 h=3 Q=30:  ½(10+30)·3 h =  60
+//	03:00 Q=30     → 05:00 h=2 Q=20:  ½(30+20)·2 h =  50
+//	05:00          → 14:00: a gap of 9 h > 4 h, not bridged
+//	14:00 h=4 Q=40 → 18:00 h=2 Q=20:  ½(40+20)·4 h = 120
+//	18:00 Q=20     → 21:00 h=3 Q=30:  ½(20+30)·3 h =  75
+//	21:00 Q=30     → 24:00 h=1 Q=10:  ½(30+10)·3 h =  60
+//	mean = 365/(3 + 2 + 4 + 3 + 3) = 365/15 = 24.333; coverage 15/24.
+//
+// The discharge of the mean of the day's six stages, (1+3+2+4+2+3)/6 = 2.5,
+// would be 25.
+func TestDailyMeanUnevenWithGap(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	res := compute(t, stages(0, 1, 3, 3, 5, 2, 14, 4, 18, 2, 21, 3, 24, 1), r, Options{MaxGap: 4 * time.Hour})
+	if len(res.Daily) != 2 {
+		t.Fatalf("%d days, want 2", len(res.Daily))
+	}
+	d := res.Daily[0]
+	if math.Abs(d.Mean-365.0/15) > meanTol || math.Abs(d.Coverage-15.0/24) > coverageTol || d.Min != 10 || d.Max != 40 ||
+		d.MaxTime.Unix() != at(14) || d.MinTime.Unix() != at(0) || d.Readings != 6 || d.Flags != Gap|Partial {
+		t.Errorf("day 1: %+v (flags %v)", d, d.Flags)
+	}
+	if !d.Date.Equal(time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC)) {
+		t.Errorf("date %v", d.Date)
+	}
+	// The second day holds one reading at its midnight and nothing else.
+	if d2 := res.Daily[1]; !math.IsNaN(d2.Mean) || d2.Coverage != 0 || d2.Readings != 1 || d2.Max != 10 || d2.Flags != Partial {
+		t.Errorf("day 2: %+v", d2)
+	}
+	if res.Units[3].Flags != Gap || res.Units[2].Flags != 0 {
+		t.Errorf("unit flags %v %v", res.Units[2].Flags, res.Units[3].Flags)
+	}
+	if len(res.Warnings) != 1 {
+		t.Errorf("warnings %q", res.Warnings)
+	}
+}
+
+// TestDayAcrossRatingPeriods: a day crossing a rating period's beginning.
+// Rating one Q = 10·h until 09:00, rating two Q = 20·h from then.
+// Readings 00:00 h=2, 06:00 h=2, 12:00 h=4, 18:00 h=4, 24:00 h=4.
+//
+//	00–06: rating one, ½(20+20)·6 = 120
+//	06–09: the stage at 09:00 is 3 (linear in time); rating one there: 30;
+//	       ½(20+30)·3 = 75
+//	09–12: rating two at 3: 60, at 12:00 (h=4): 80; ½(60+80)·3 = 210
+//	12–24: 80·12 = 960
+//	mean = (120 + 75 + 210 + 960)/24 = 1365/24 = 56.875, coverage 1.
+//
+// Without the split, the trapezoid 06–12 would be ½(20+80)·6 = 300 and the
+// mean (120 + 300 + 960)/24 = 57.5.
+func TestDayAcrossRatingPeriods(t *testing.T) {
+	h := gauged.History{Periods: []gauged.Period{
+		{Rating: linear("one", 10)},
+		{From: time.Unix(at(9), 0), Rating: linear("two", 20)},
+	}}
+	res := compute(t, stages(0, 2, 6, 2, 12, 4, 18, 4, 24, 4), rater(t, h), Options{MaxGap: 6 * time.Hour})
+	d := res.Daily[0]
+	if math.Abs(d.Mean-56.875) > meanTol || d.Coverage != 1 || d.Flags != 0 {
+		t.Errorf("day: %+v", d)
+	}
+	if q := res.Units[2].Discharge; q != 80 || res.Units[1].Discharge != 20 {
+		t.Errorf("unit discharges %v %v", res.Units[1].Discharge, q)
+	}
+	if res.Periods[0].Readings != 2 || res.Periods[1].Readings != 3 || !res.Periods[0].To.Equal(time.Unix(at(9), 0)) {
+		t.Errorf("periods %+v", res.Periods)
+	}
+}
+
+// TestAbruptShiftInRecord: an abrupt diagram at 12:00 splits the day as a
+// period's beginning does. Rating Q = 10·h; diagram A at 00:00 constant
+// +0.5, diagram B at 12:00 abrupt constant −0.5; constant stage 2 m read
+// every 8 h (00, 08, 16, 24):
+//
+//	00–08: Q = 10·2.5 = 25 → 200;  08–12: 25 → 100;  12–16: 15 → 60;  16–24: 15 → 120
+//	mean = 480/24 = 20.
+func TestAbruptShiftInRecord(t *testing.T) {
+	h := gauged.History{
+		Periods: []gauged.Period{{Rating: linear("q=10h", 10)}},
+		Shifts: []gauged.ShiftDiagram{
+			{Time: time.Unix(at(0), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0.5}}},
+			{Time: time.Unix(at(12), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: -0.5}}, Abrupt: true},
+		},
+	}
+	res := compute(t, stages(0, 2, 8, 2, 16, 2, 24, 2), rater(t, h), Options{MaxGap: 8 * time.Hour})
+	if d := res.Daily[0]; math.Abs(d.Mean-20) > meanTol || d.Coverage != 1 {
+		t.Errorf("day: %+v", d)
+	}
+	if u := res.Units[2]; u.Shift != -0.5 || u.Effective != 1.5 || u.Discharge != 15 {
+		t.Errorf("16:00: %+v", u)
+	}
+}
+
+// TestFlags: readings before every period, in a period without a rating,
+// outside the table, below zero flow and above the highest gauging are
+// flagged, and only the first three lack a discharge.
+func TestFlags(t *testing.T) {
+	rt := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.5, Discharge: 1}, {Stage: 3, Discharge: 30}},
+		HasZeroFlow: true, ZeroFlow: 0.2, HasHighGauging: true, HighGauging: 2}
+	h := gauged.History{Periods: []gauged.Period{
+		{From: time.Unix(at(1), 0), Rating: rt},
+		{From: time.Unix(at(5), 0)},
+		{From: time.Unix(at(6), 0), Rating: rt},
+	}}
+	res := compute(t, stages(0, 1, 1, 1, 2, 0.1, 3, 2.5, 4, 3.5, 5, 1, 6, 1), rater(t, h), Options{})
+	want := []Flag{NoRating, 0, BelowZeroFlow, AboveGaugings, OutsideRating | AboveGaugings, NoRating, 0}
+	for i, u := range res.Units {
+		noQ := u.Flags&(NoRating|OutsideRating) != 0
+		if u.Flags != want[i] || noQ != math.IsNaN(u.Discharge) {
+			t.Errorf("reading %d: flags %q, Q %v; want %q", i, u.Flags, u.Discharge, want[i])
+		}
+	}
+	if res.Units[2].Discharge != 0 {
+		t.Errorf("below zero flow: Q %v", res.Units[2].Discharge)
+	}
+	d := res.Daily[0]
+	// Covered: 01–02 and 02–03 (two hours); 00–01 and 03–06 have an end without a discharge.
+	if math.Abs(d.Coverage-2.0/24) > coverageTol || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
+		t.Errorf("day: coverage %v flags %q", d.Coverage, d.Flags)
+	}
+	if len(res.Warnings) != 3 {
+		t.Errorf("warnings %q", res.Warnings)
+	}
+}
+
+// TestDaysInOffset: with days taken at UTC+10:00, midnight falls at 14:00
+// UTC. Readings every 6 h from 00:00 UTC on 1 January, Q = 10·h with h the
+// hour of the day in UTC/6 (0, 1, 2, 3, 0, ...). The local day of
+// 1 January runs from 14:00 UTC on 31 December; it holds the readings of
+// 00:00 and 06:00 and 12:00 UTC, and its covered part is 00:00–14:00 UTC:
+//
+//	00–06: ½(0+10)·6 = 30;  06–12: ½(10+20)·6 = 90;
+//	12–14: Q at 14:00 is 20 + (30−20)·2/6 = 23.333; ½(20+23.333)·2 = 43.333
+//	mean = 163.333/14 = 11.667, coverage 14/24.
+func TestDaysInOffset(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	st := stages(0, 0, 6, 1, 12, 2, 18, 3, 24, 0)
+	res := compute(t, st, r, Options{UTCOffset: 10 * time.Hour, MaxGap: 6 * time.Hour})
+	d := res.Daily[0]
+	if y, m, dd := d.Date.Date(); y != 2024 || m != 1 || dd != 1 || d.Date.Hour() != 0 {
+		t.Fatalf("first day %v", d.Date)
+	}
+	want := (30 + 90 + 0.5*(20+20+10.0/3)*2) / 14
+	if math.Abs(d.Mean-want) > meanTol || math.Abs(d.Coverage-14.0/24) > coverageTol || d.Readings != 3 {
+		t.Errorf("day: %+v, want mean %v", d, want)
+	}
+	if _, err := Compute(st, r, Options{UTCOffset: 15 * time.Hour}); !errors.Is(err, ErrUTCOffset) {
+		t.Errorf("offset 15 h: %v", err)
+	}
+}
+
+// TestDailyMeansIntegrate: over a random record without gaps, the daily
+// means weighted by their covered time add up to the integral of the unit
+// discharges, computed independently by gonum's integrate.Trapezoidal over
+// all readings at once.
+func TestDailyMeansIntegrate(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	rt := &gauged.RatingTable{Name: "r", HasZeroFlow: true, ZeroFlow: 0.1,
+		Points: []gauged.RatingPoint{{Stage: 0.3, Discharge: 0.5}, {Stage: 0.8, Discharge: 4}, {Stage: 1.5, Discharge: 16}, {Stage: 3, Discharge: 70}}}
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: rt}}})
+	st := &Stages{}
+	tm := at(7.3)
+	h := 1.0
+	for range 2000 {
+		tm += int64(300 + rng.IntN(1500))
+		h = math.Min(2.9, math.Max(0.35, h+0.05*rng.NormFloat64()))
+		st.Time, st.Stage = append(st.Time, tm), append(st.Stage, h)
+	}
+	res := compute(t, st, r, Options{MaxGap: time.Hour})
+	xs, ys := make([]float64, len(res.Units)), make([]float64, len(res.Units))
+	for i, u := range res.Units {
+		xs[i], ys[i] = float64(u.Time-st.Time[0]), u.Discharge
+	}
+	want := integrate.Trapezoidal(xs, ys)
+	var got, covered float64
+	for _, d := range res.Daily {
+		got += d.Mean * d.Coverage * daySeconds
+		covered += d.Coverage * daySeconds
+	}
+	if math.Abs(got-want) > integralTol*want || covered != xs[len(xs)-1] {
+		t.Errorf("Σ daily = %v over %v s, trapezoidal %v over %v s", got, covered, want, xs[len(xs)-1])
+	}
+}
+
+func TestStagesValidate(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		st   *Stages
+		idx  int
+		is   error
+	}{
+		{"empty", &Stages{}, -1, ErrNoReadings},
+		{"lengths", &Stages{Time: []int64{1, 2}, Stage: []float64{1}}, -1, ErrStagesLength},
+		{"repeated time", &Stages{Time: []int64{1, 1}, Stage: []float64{1, 1}}, 1, ErrStagesOrder},
+		{"NaN stage", &Stages{Time: []int64{1, 2}, Stage: []float64{1, math.NaN()}}, 1, ErrStageValue},
+		{"quality index", &Stages{Time: []int64{1}, Stage: []float64{1}, Quality: []uint16{2}, Qualities: []string{"", "ice"}}, 0, ErrQualityIndex},
+	} {
+		err := tc.st.Validate()
+		var se *StagesError
+		if !errors.Is(err, tc.is) || !errors.As(err, &se) || se.Index != tc.idx {
+			t.Errorf("%s: %v, want %v at %d", tc.name, err, tc.is, tc.idx)
+		}
+	}
+}
+
+func TestFlagWords(t *testing.T) {
+	if s := (Gap | AboveGaugings | Partial).String(); s != "above_gaugings gap partial" {
+		t.Errorf("flags %q", s)
+	}
+	if len(FlagWords()) != 7 || Flag(0).String() != "" {
+		t.Errorf("words %q", FlagWords())
+	}
+}

@@ -1,0 +1,137 @@
+package record
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+	"time"
+)
+
+// Stages is a record of gauge heights in compact arrays (a 30-year record
+// of 15-minute readings is about a million of them).
+type Stages struct {
+	// Name identifies the record in reports (its file).
+	Name string
+	// Time holds the readings' times as Unix seconds, strictly ascending.
+	Time []int64
+	// Stage holds the gauge heights (length unit), finite.
+	Stage []float64
+	// Quality, when not nil, holds each reading's quality as an index into
+	// Qualities (0 for none).
+	Quality []uint16
+	// Qualities are the distinct quality words of the record; the first is
+	// "" (no quality).
+	Qualities []string
+}
+
+// Len is the number of readings.
+func (s *Stages) Len() int { return len(s.Time) }
+
+// Causes of a stage record that cannot be used, for errors.Is.
+var (
+	ErrStagesLength = errors.New("the arrays of a stage record differ in length")
+	ErrStagesOrder  = errors.New("times of a stage record must increase from reading to reading")
+	ErrStageValue   = errors.New("a gauge height must be a finite number")
+	ErrQualityIndex = errors.New("a reading's quality is not among the record's qualities")
+	ErrNoReadings   = errors.New("the stage record has no readings")
+)
+
+// A StagesError reports a reading of a stage record that cannot be used.
+type StagesError struct {
+	// Index is the 0-based reading, -1 for the whole record.
+	Index int
+	Err   error
+}
+
+func (e *StagesError) Error() string {
+	if e.Index < 0 {
+		return e.Err.Error()
+	}
+	return fmt.Sprintf("reading %d: %v", e.Index+1, e.Err)
+}
+
+func (e *StagesError) Unwrap() error { return e.Err }
+
+// Validate checks the record and returns the first problem as a
+// *StagesError, or nil.
+func (s *Stages) Validate() error {
+	n := len(s.Time)
+	if n == 0 {
+		return &StagesError{Index: -1, Err: ErrNoReadings}
+	}
+	if len(s.Stage) != n || s.Quality != nil && len(s.Quality) != n {
+		return &StagesError{Index: -1, Err: fmt.Errorf("%w: %d times, %d stages, %d qualities", ErrStagesLength, n, len(s.Stage), len(s.Quality))}
+	}
+	for i, t := range s.Time {
+		if i > 0 && t <= s.Time[i-1] {
+			return &StagesError{Index: i, Err: fmt.Errorf("%w: %s after %s", ErrStagesOrder, utc(t), utc(s.Time[i-1]))}
+		}
+		if h := s.Stage[i]; math.IsNaN(h) || math.IsInf(h, 0) {
+			return &StagesError{Index: i, Err: ErrStageValue}
+		}
+		if s.Quality != nil && int(s.Quality[i]) >= max(1, len(s.Qualities)) {
+			return &StagesError{Index: i, Err: ErrQualityIndex}
+		}
+	}
+	return nil
+}
+
+// QualityOf returns the quality word of reading i ("" when none).
+func (s *Stages) QualityOf(i int) string {
+	if s.Quality == nil || int(s.Quality[i]) >= len(s.Qualities) {
+		return ""
+	}
+	return s.Qualities[s.Quality[i]]
+}
+
+func utc(sec int64) string { return time.Unix(sec, 0).UTC().Format(time.RFC3339) }
+
+// Flag marks a unit or daily value. Flags combine as bits.
+type Flag uint16
+
+// Flags of unit and daily values.
+const (
+	// AboveGaugings: the effective stage is above the highest gauging of
+	// the rating in force.
+	AboveGaugings Flag = 1 << iota
+	// BelowZeroFlow: the effective stage is at or below the rating's gauge
+	// height of zero flow; the discharge is zero.
+	BelowZeroFlow
+	// OutsideRating: the effective stage is outside the rating table; no
+	// discharge.
+	OutsideRating
+	// Extrapolated: the effective stage is outside the rating table and
+	// the discharge was extrapolated, as the rating asked.
+	Extrapolated
+	// Gap: on a unit value, the reading before it is more than the maximum
+	// gap away; on a daily value, such a gap falls in the day.
+	Gap
+	// NoRating: no rating is in force (outside every rating period, or in a
+	// period without a rating); no discharge.
+	NoRating
+	// Partial: on a daily value, less than the whole day is covered.
+	Partial
+)
+
+// flagWords are the words of the flags, in bit order.
+var flagWords = [...]string{"above_gaugings", "below_zero_flow", "outside_rating", "extrapolated", "gap", "no_rating", "partial"}
+
+// FlagWords returns the words of every flag, in bit order. The slice is new
+// on every call.
+func FlagWords() []string { return append([]string(nil), flagWords[:]...) }
+
+// Words returns the words of the flags set, in bit order.
+func (f Flag) Words() []string {
+	var out []string
+	for i, w := range flagWords {
+		if f&(1<<i) != 0 {
+			out = append(out, w)
+		}
+	}
+	return out
+}
+
+// String returns the words of the flags set, separated by spaces ("" when
+// none).
+func (f Flag) String() string { return strings.Join(f.Words(), " ") }

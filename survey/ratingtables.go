@@ -1,0 +1,232 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"wetline/rating/gauged"
+)
+
+// Column names of a rating table read for the record. Only stage (or
+// gauge_height) and discharge are required; valid_from splits one table
+// into rating periods; extrapolated (as a rating fit's table writes it)
+// marks rows outside the gaugings. Other columns are ignored.
+const (
+	ColRatingStage        = "stage"
+	ColRatingDischarge    = "discharge"
+	ColRatingValidFrom    = "valid_from"
+	ColRatingExtrapolated = "extrapolated"
+)
+
+// RatingTableOptions configure the reading of rating tables. The zero
+// value reads a table of gauge heights with no zero-flow stage, no
+// extrapolation, in force from the beginning of any record.
+type RatingTableOptions struct {
+	// Sheet is the workbook sheet to read ("" = the first).
+	Sheet string
+	// HasZeroFlow and ZeroFlow give the gauge height of zero flow e
+	// (length unit) of every rating read.
+	HasZeroFlow bool
+	ZeroFlow    float64
+	// HasHighGauging and HighGauging give the gauge height of the highest
+	// gauging (length unit); without them it is taken from an
+	// extrapolated column when there is one.
+	HasHighGauging bool
+	HighGauging    float64
+	// Extrapolate lets the ratings extrapolate beyond their rows.
+	Extrapolate bool
+	// Datum is subtracted from the table's stages (length unit; default 0):
+	// a table of elevations, as a section's hydraulic rating is written,
+	// is then read at gauge heights.
+	Datum float64
+	// From is when the rating of a table without a valid_from column comes
+	// into force (the zero time: from the beginning of any record).
+	From time.Time
+	// UTCOffset is the offset of valid_from times written without one
+	// (default 0, UTC; whole seconds within record.MaxUTCOffset).
+	UTCOffset time.Duration
+}
+
+// RatingTables are the rating periods read from a file.
+type RatingTables struct {
+	// Periods are in time order, each with its rating table.
+	Periods []gauged.Period
+	// File and Sheet say where the ratings came from.
+	File, Sheet string
+	// Warnings are unusual but legal facts about the data.
+	Warnings []string
+}
+
+// ErrValidFromBlank is the cause of a first rating row without a time in a
+// table that has a valid_from column.
+var ErrValidFromBlank = errors.New("the first row of a table with a valid_from column needs a time")
+
+// ReadRatingTables reads rating tables from a CSV file or a workbook sheet
+// (by extension). See RatingTablesFromTable.
+func ReadRatingTables(path string, opt RatingTableOptions) (RatingTables, error) {
+	t, err := ReadTable(path, opt.Sheet)
+	if err != nil {
+		return RatingTables{}, err
+	}
+	return RatingTablesFromTable(t, opt)
+}
+
+// ParseRatingTables reads rating tables from CSV text; name is used in
+// messages and names the ratings.
+func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (RatingTables, error) {
+	t, err := ParseCSV(r, name)
+	if err != nil {
+		return RatingTables{}, err
+	}
+	return RatingTablesFromTable(t, opt)
+}
+
+// RatingTablesFromTable reads one rating from a table with stage and
+// discharge columns (any table wetline writes of a rating, or one an office
+// keeps), or, when the table has a valid_from column, one rating per
+// valid_from time (a blank valid_from continues the rating above). Rows
+// must ascend in stage with discharge rising once above zero (see
+// gauged.RatingTable.Validate); periods must ascend in time. Every bad
+// cell is reported with its position.
+func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, error) {
+	out := RatingTables{File: t.File, Sheet: t.Sheet}
+	off, err := checkOffset(opt.UTCOffset)
+	if err != nil {
+		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
+	}
+	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
+	if err != nil {
+		return out, err
+	}
+	cq, err := t.Require(ColRatingDischarge)
+	if err != nil {
+		return out, err
+	}
+	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)
+	var errs errorList
+	var groups []ratingGroup
+	for _, rec := range t.Records {
+		if cv >= 0 {
+			if s := t.Cell(rec, cv); s != "" {
+				sec, err := cellTime(s, t.Sheet != "", t.Date1904, off)
+				if err != nil {
+					errs = append(errs, t.At(rec, cv, err))
+				}
+				groups = append(groups, ratingGroup{from: time.Unix(sec, 0).UTC(), fromRec: rec})
+			} else if len(groups) == 0 {
+				errs = append(errs, t.At(rec, cv, ErrValidFromBlank))
+				groups = append(groups, ratingGroup{fromRec: rec})
+			}
+		} else if len(groups) == 0 {
+			groups = append(groups, ratingGroup{from: opt.From, fromRec: rec})
+		}
+		g := &groups[len(groups)-1]
+		h, okh := ratingNumber(t, rec, cs, &errs)
+		q, okq := ratingNumber(t, rec, cq, &errs)
+		if okh && okq {
+			g.points = append(g.points, gauged.RatingPoint{Stage: h - opt.Datum, Discharge: q})
+			g.recs = append(g.recs, rec)
+			g.extrapolated = append(g.extrapolated, cx >= 0 && yesWord(t.Cell(rec, cx)))
+		}
+	}
+	if err := errs.err(); err != nil {
+		return out, err
+	}
+	if len(groups) == 0 {
+		return out, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
+	}
+	for i, g := range groups {
+		p, err := g.period(t, cs, cq, cx >= 0, opt, &out.Warnings)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		if i > 0 && !p.From.After(groups[i-1].from) {
+			errs = append(errs, t.At(g.fromRec, cv, fmt.Errorf("%w: %s is not after %s", gauged.ErrPeriodOrder,
+				p.From.Format(time.RFC3339), groups[i-1].from.Format(time.RFC3339))))
+		}
+		out.Periods = append(out.Periods, p)
+	}
+	return out, errs.err()
+}
+
+// ratingGroup is the rows of one rating in a table.
+type ratingGroup struct {
+	from         time.Time
+	fromRec      Record
+	points       []gauged.RatingPoint
+	recs         []Record
+	extrapolated []bool
+}
+
+// period makes the group's rating period, or the error at its row.
+func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOptions, warn *[]string) (gauged.Period, *ParseError) {
+	name := ratingName(t)
+	if !g.from.IsZero() {
+		name += " from " + g.from.Format(time.RFC3339)
+	}
+	rt := &gauged.RatingTable{Name: name, Points: g.points, HasZeroFlow: opt.HasZeroFlow, ZeroFlow: opt.ZeroFlow,
+		HasHighGauging: opt.HasHighGauging, HighGauging: opt.HighGauging, Extrapolate: opt.Extrapolate}
+	if hasX && !opt.HasHighGauging {
+		for i, x := range g.extrapolated {
+			if !x && (!rt.HasHighGauging || g.points[i].Stage > rt.HighGauging) {
+				rt.HasHighGauging, rt.HighGauging = true, g.points[i].Stage
+			}
+		}
+	}
+	err := rt.Validate()
+	var re *gauged.RatingError
+	if errors.As(err, &re) {
+		rec, col := g.fromRec, cs
+		if re.Point >= 0 {
+			rec = g.recs[re.Point]
+		}
+		if re.Field == "discharge" {
+			col = cq
+		}
+		if re.Point < 0 && re.Field != "stage" {
+			return gauged.Period{}, &ParseError{File: t.File, Sheet: t.Sheet, Row: rec.Row, Err: fmt.Errorf("rating %s: %w", name, re)}
+		}
+		return gauged.Period{}, t.At(rec, col, re.Err)
+	}
+	if len(g.points) > 0 && g.points[0].Discharge == 0 && !opt.HasZeroFlow {
+		*warn = append(*warn, fmt.Sprintf("%s: the first row has no flow at stage %g: give the gauge height of zero flow to interpolate log-linearly in (h − e)",
+			where(t, g.recs[0].Row), g.points[0].Stage))
+	}
+	return gauged.Period{From: g.from, Rating: rt}, nil
+}
+
+// ratingNumber reads a required number cell of a rating table.
+func ratingNumber(t *Table, rec Record, col int, errs *errorList) (float64, bool) {
+	v, ok, err := t.Float(rec, col)
+	switch {
+	case err != nil:
+		*errs = append(*errs, err.(*ParseError))
+		return 0, false
+	case !ok:
+		*errs = append(*errs, t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, t.Header[col])))
+		return 0, false
+	}
+	return v, true
+}
+
+// yesWord reads a yes/true cell.
+func yesWord(s string) bool {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "yes", "y", "true", "1":
+		return true
+	}
+	return false
+}
+
+// ratingName names a rating by its sheet, or by its file's base name.
+func ratingName(t *Table) string {
+	if t.Sheet != "" {
+		return filepath.Base(t.File) + "['" + t.Sheet + "']"
+	}
+	return filepath.Base(t.File)
+}

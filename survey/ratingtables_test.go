@@ -1,0 +1,84 @@
+package survey
+
+import (
+	"errors"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"wetline/rating/gauged"
+)
+
+func formatG(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+func TestParseRatingTables(t *testing.T) {
+	// A fitted lookup table as the fit command writes it: the highest row
+	// that is not extrapolated is the highest gauging.
+	const fit = "stage,discharge,extrapolated,basis,lower_95,upper_95,hydraulic\n" +
+		"0.2,0,true,fit below gaugings,,,\n" +
+		"0.5,1.4,false,fit,1.3,1.5,\n" +
+		"2.6,26.1,false,fit,25,27,\n" +
+		"3.0,33.0,true,scaled hydraulic,,,31\n"
+	rs, err := ParseRatingTables(strings.NewReader(fit), "fit.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs.Periods) != 1 || !rs.Periods[0].From.IsZero() || len(rs.Warnings) != 0 {
+		t.Fatalf("periods %+v warnings %q", rs.Periods, rs.Warnings)
+	}
+	rt := rs.Periods[0].Rating
+	if !rt.HasHighGauging || rt.HighGauging != 2.6 || !rt.HasZeroFlow || rt.Name != "fit.csv" || len(rt.Points) != 4 {
+		t.Errorf("rating %+v", rt)
+	}
+	// Periods from a valid_from column; elevations turned into gauge heights.
+	const periods = "valid_from,stage,discharge\n" +
+		"2023-01-01,100.5,0\n,101.0,2\n,102.0,9\n" +
+		"2024-06-01T00:00+10:00,100.6,0\n,101.2,3\n"
+	rs, err = ParseRatingTables(strings.NewReader(periods), "r.csv", RatingTableOptions{Datum: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs.Periods) != 2 || !rs.Periods[1].From.Equal(time.Date(2024, 5, 31, 14, 0, 0, 0, time.UTC)) ||
+		rs.Periods[0].Rating.Points[1].Stage != 1 || len(rs.Periods[1].Rating.Points) != 2 || len(rs.Warnings) != 2 {
+		t.Errorf("periods %+v warnings %q", rs.Periods, rs.Warnings)
+	}
+	if _, err := (gauged.History{Periods: rs.Periods}).Compile(); err != nil {
+		t.Errorf("periods read do not compile: %v", err)
+	}
+}
+
+func TestParseRatingTablesErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, in string
+		opt      RatingTableOptions
+		want     []string
+		is       error
+	}{
+		{"discharge falls", "stage,discharge\n0.5,1\n1.0,3\n1.5,2.5\n", RatingTableOptions{}, []string{"r.csv:4:2", `discharge "2.5"`}, gauged.ErrRatingNotRising},
+		{"stage repeats", "stage,discharge\n0.5,1\n0.5,3\n", RatingTableOptions{}, []string{"r.csv:3:1"}, gauged.ErrRatingStages},
+		{"one row", "stage,discharge\n0.5,1\n", RatingTableOptions{}, []string{"r.csv:2"}, gauged.ErrRatingTooFew},
+		{"e above flow", "stage,discharge\n0.5,1\n1.0,3\n", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.6}, []string{"r.csv:2:1"}, gauged.ErrZeroFlowAbove},
+		{"blank discharge", "stage,discharge\n0.5,\n1.0,3\n", RatingTableOptions{}, []string{"r.csv:2:2", "blank"}, ErrNotNumber},
+		{"negative", "stage,discharge\n0.5,-1\n1.0,3\n", RatingTableOptions{}, []string{"r.csv:2:2"}, gauged.ErrRatingNegative},
+		{"periods out of order", "valid_from,stage,discharge\n2024-01-01,0,0\n,1,1\n2023-01-01,0,0\n,1,2\n", RatingTableOptions{}, []string{"r.csv:4:1"}, gauged.ErrPeriodOrder},
+		{"first valid_from blank", "valid_from,stage,discharge\n,0,0\n,1,1\n", RatingTableOptions{}, []string{"r.csv:2:1"}, ErrValidFromBlank},
+		{"no discharge column", "stage,flow\n0,0\n", RatingTableOptions{}, []string{"discharge"}, ErrMissingColumn},
+		{"no rows", "stage,discharge\n", RatingTableOptions{}, []string{"no data rows"}, ErrEmpty},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseRatingTables(strings.NewReader(tc.in), "r.csv", tc.opt)
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q does not say %q", err, w)
+				}
+			}
+			if !errors.Is(err, tc.is) {
+				t.Errorf("error %q is not %v", err, tc.is)
+			}
+		})
+	}
+}

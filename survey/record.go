@@ -1,0 +1,353 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strings"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating/record"
+)
+
+// Column names of a stage record (matched as table columns are; a unit in
+// brackets is allowed).
+const (
+	ColRecordTime    = "time"
+	ColRecordStage   = "stage"
+	ColRecordQuality = "quality"
+)
+
+// StageRecordOptions configure the reading of a stage record. The zero
+// value reads the first sheet of a workbook and takes times written
+// without an offset as UTC.
+type StageRecordOptions struct {
+	// Sheet is the workbook sheet to read ("" = the first).
+	Sheet string
+	// UTCOffset is the offset of times written without one (east
+	// positive; default 0, UTC; whole seconds within record.MaxUTCOffset).
+	// Workbook date serials are read as times at this offset.
+	UTCOffset time.Duration
+}
+
+// StageRecord is a stage record read from a file.
+type StageRecord struct {
+	// Stages holds the readings in compact arrays.
+	Stages record.Stages
+	// File and Sheet say where the record came from.
+	File, Sheet string
+	// Blank is the number of rows with a time but no stage (read as
+	// missing readings).
+	Blank int
+	// Warnings are unusual but legal facts about the data.
+	Warnings []string
+}
+
+// Causes of stage-record errors, for errors.Is.
+var (
+	ErrTooManyQualities = errors.New("more than 65535 different quality words")
+	ErrBlankTime        = errors.New("time is blank")
+)
+
+// recordBytesPerRow is a guess at the bytes of one CSV row of a stage
+// record, to size the arrays before reading.
+const recordBytesPerRow = 24
+
+// ReadStageRecord reads a stage record from a CSV file, streaming it row
+// by row, or from a workbook sheet (by extension). See ParseStageRecord.
+func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) {
+	if IsWorkbook(path) {
+		return readStageWorkbook(path, opt)
+	}
+	if opt.Sheet != "" {
+		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
+	}
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	size := 0
+	if st, err := f.Stat(); err == nil {
+		size = int(st.Size() / recordBytesPerRow)
+	}
+	return parseStageCSV(f, path, opt, size)
+}
+
+// ParseStageRecord reads a stage record from CSV text, row by row into
+// compact arrays (a million rows are never held as text); name is used in
+// messages. The header needs a time and a stage (or gauge_height) column;
+// a quality column is optional and other columns are ignored.
+//
+// Times are ISO 8601 (see ParseISOTime), with or without an offset. Every
+// bad cell is reported with its position (file:row:column), at most
+// MaxReported of them: an unreadable time or stage, a time that repeats or
+// goes back (naming the row before). A row with a time and a blank stage
+// is a missing reading: it is left out and counted in Blank.
+func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
+	return parseStageCSV(r, name, opt, 0)
+}
+
+func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint int) (*StageRecord, error) {
+	b, err := newStageBuilder(name, "", opt, false, false)
+	if err != nil {
+		return nil, err
+	}
+	cs := newCSVStream(r, name)
+	for {
+		fields, line, err := cs.next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, err
+		}
+		if b.header == nil {
+			h := make([]string, len(fields))
+			for i, f := range fields {
+				h[i] = string(f)
+			}
+			if len(h) == 1 && strings.Contains(h[0], ";") {
+				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
+			}
+			if err := b.setHeader(h, line, sizeHint); err != nil {
+				return nil, err
+			}
+			continue
+		}
+		b.row(fields, line)
+	}
+	return b.finish()
+}
+
+// readStageWorkbook streams a stage record from a workbook sheet.
+func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error) {
+	if err := checkWorkbookFile(path); err != nil {
+		return nil, &ParseError{File: path, Err: err}
+	}
+	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
+	if err != nil {
+		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+	}
+	defer f.Close()
+	sheet := opt.Sheet
+	sheets := f.GetSheetList()
+	if sheet == "" {
+		if len(sheets) == 0 {
+			return nil, &ParseError{File: path, Err: errors.New("workbook has no sheets")}
+		}
+		sheet = sheets[0]
+	} else if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
+		return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
+	}
+	date1904 := false
+	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
+		date1904 = *props.Date1904
+	}
+	b, err := newStageBuilder(path, sheet, opt, true, date1904)
+	if err != nil {
+		return nil, err
+	}
+	rows, err := f.Rows(sheet)
+	if err != nil {
+		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+	}
+	defer rows.Close()
+	var fields [][]byte
+	for n := 1; rows.Next(); n++ {
+		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
+		if err != nil {
+			return nil, &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
+		}
+		if blank(rec) {
+			continue
+		}
+		if b.header == nil {
+			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
+				return nil, err
+			}
+			continue
+		}
+		fields = fields[:0]
+		for _, c := range rec {
+			fields = append(fields, []byte(strings.TrimSpace(c)))
+		}
+		b.row(fields, n)
+	}
+	if err := rows.Error(); err != nil {
+		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+	}
+	return b.finish()
+}
+
+// stageBuilder turns the rows of a stage record into compact arrays.
+type stageBuilder struct {
+	file, sheet          string
+	inWorkbook, date1904 bool
+	off                  int64
+	header               []string
+	headerRow            int
+	ct, cs, cq           int
+	out                  *StageRecord
+	quality              map[string]uint16
+	lastSec              int64 // time of the last row with a usable time
+	lastRow              int   // its row; 0 before the first
+	errs                 cappedErrors
+}
+
+func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
+	off, err := checkOffset(opt.UTCOffset)
+	if err != nil {
+		return nil, &ParseError{File: file, Sheet: sheet, Err: err}
+	}
+	return &stageBuilder{file: file, sheet: sheet, inWorkbook: inWorkbook, date1904: date1904, off: off,
+		out: &StageRecord{File: file, Sheet: sheet, Stages: record.Stages{Name: file}}}, nil
+}
+
+// setHeader finds the columns; sizeHint is the expected number of rows.
+func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
+	t := &Table{File: b.file, Sheet: b.sheet, Header: h, HeaderRow: row}
+	var err error
+	if b.ct, err = t.Require(ColRecordTime); err != nil {
+		return err
+	}
+	if b.cs, err = t.Require(ColRecordStage, ColGaugeHeight); err != nil {
+		return err
+	}
+	b.cq = t.Column(ColRecordQuality)
+	b.header, b.headerRow = h, row
+	st := &b.out.Stages
+	st.Time = make([]int64, 0, sizeHint)
+	st.Stage = make([]float64, 0, sizeHint)
+	if b.cq >= 0 {
+		st.Quality = make([]uint16, 0, sizeHint)
+		st.Qualities = []string{""}
+		b.quality = map[string]uint16{"": 0}
+	}
+	return nil
+}
+
+// fail records a bad cell.
+func (b *stageBuilder) fail(row, col int, text []byte, err error) {
+	b.errs.add(&ParseError{File: b.file, Sheet: b.sheet, Row: row, Column: col + 1, Name: b.header[col], Text: string(text), Err: err})
+}
+
+// row reads one data row.
+func (b *stageBuilder) row(fields [][]byte, row int) {
+	cell := func(c int) []byte {
+		if c < 0 || c >= len(fields) {
+			return nil
+		}
+		return fields[c]
+	}
+	ts, hs := cell(b.ct), cell(b.cs)
+	if len(ts) == 0 {
+		b.fail(row, b.ct, nil, ErrBlankTime)
+		return
+	}
+	var sec int64
+	var err error
+	if b.inWorkbook {
+		sec, err = cellTime(string(ts), true, b.date1904, b.off)
+	} else if sec, err = parseISO(ts, b.off); errors.Is(err, ErrISOTime) {
+		_, err = cellTime(string(ts), false, false, b.off)
+	}
+	if err != nil {
+		b.fail(row, b.ct, ts, err)
+		return
+	}
+	if b.lastRow > 0 && sec <= b.lastSec {
+		if sec == b.lastSec {
+			b.fail(row, b.ct, ts, fmt.Errorf("%w: the same time as row %d", ErrRepeatedTime, b.lastRow))
+		} else {
+			b.fail(row, b.ct, ts, fmt.Errorf("%w: %s is before %s, the time of row %d", ErrTimeOrder, formatUnix(sec), formatUnix(b.lastSec), b.lastRow))
+		}
+		return
+	}
+	b.lastSec, b.lastRow = sec, row
+	st := &b.out.Stages
+	if len(hs) == 0 {
+		b.out.Blank++
+		return
+	}
+	h, err := parseDecimal(hs)
+	if err != nil {
+		b.fail(row, b.cs, hs, err)
+		return
+	}
+	var q uint16
+	if qs := cell(b.cq); len(qs) > 0 {
+		k, ok := b.quality[string(qs)]
+		if !ok {
+			if len(st.Qualities) > math.MaxUint16 {
+				b.fail(row, b.cq, qs, ErrTooManyQualities)
+				return
+			}
+			k = uint16(len(st.Qualities))
+			st.Qualities = append(st.Qualities, string(qs))
+			b.quality[string(qs)] = k
+		}
+		q = k
+	}
+	st.Time = append(st.Time, sec)
+	st.Stage = append(st.Stage, h)
+	if b.cq >= 0 {
+		st.Quality = append(st.Quality, q)
+	}
+}
+
+// finish returns the record or every error found.
+func (b *stageBuilder) finish() (*StageRecord, error) {
+	if b.header == nil {
+		return nil, &ParseError{File: b.file, Sheet: b.sheet, Err: errors.New("empty file: no header row")}
+	}
+	if err := b.errs.err(b.file); err != nil {
+		return nil, err
+	}
+	if len(b.out.Stages.Time) == 0 {
+		return nil, &ParseError{File: b.file, Sheet: b.sheet, Row: b.headerRow, Err: ErrEmpty}
+	}
+	if n := b.out.Blank; n > 0 {
+		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %d row(s) with a time but no stage, read as missing readings", b.file, n))
+	}
+	return b.out, nil
+}
+
+// cappedErrors keeps the first MaxReported parse errors and counts the
+// rest, so that a file of a million bad rows does not hold a million
+// errors.
+type cappedErrors struct {
+	list  []*ParseError
+	extra int
+}
+
+func (c *cappedErrors) add(e *ParseError) {
+	if len(c.list) < MaxReported {
+		c.list = append(c.list, e)
+		return
+	}
+	c.extra++
+}
+
+// err joins the errors kept, one per line, and says how many more there
+// were.
+func (c *cappedErrors) err(file string) error {
+	if len(c.list) == 0 {
+		return nil
+	}
+	if c.extra == 0 && len(c.list) == 1 {
+		return c.list[0]
+	}
+	errs := make([]error, 0, len(c.list)+1)
+	for _, e := range c.list {
+		errs = append(errs, e)
+	}
+	if c.extra > 0 {
+		errs = append(errs, fmt.Errorf("%s: %d more errors not shown", file, c.extra))
+	}
+	return errors.Join(errs...)
+}

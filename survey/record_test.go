@@ -1,0 +1,283 @@
+package survey
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating/record"
+)
+
+func utcUnix(y int, m time.Month, d, hh, mm, ss int) int64 {
+	return time.Date(y, m, d, hh, mm, ss, 0, time.UTC).Unix()
+}
+
+func TestParseStageRecord(t *testing.T) {
+	const in = "\ufeff# logger 7, Tallow Creek\r\n" +
+		"Time,Stage (m),Quality,battery\r\n" +
+		"2024-05-01T00:00,0.512,,12.1\r\n" +
+		"\r\n" +
+		"2024-05-01 00:15:00Z, 0.515 ,ice,12.1\r\n" +
+		"\"2024-05-01T10:30+10:00\",\"0.52\",\"ice, partial\",12.0\r\n" +
+		"2024-05-01T00:45:00.000Z,,,\r\n" +
+		"2024-05-01T01:00,0.53,estimated,\r\n"
+	r, err := ParseStageRecord(strings.NewReader(in), "s.csv", StageRecordOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := r.Stages
+	want := []int64{utcUnix(2024, 5, 1, 0, 0, 0), utcUnix(2024, 5, 1, 0, 15, 0), utcUnix(2024, 5, 1, 0, 30, 0), utcUnix(2024, 5, 1, 1, 0, 0)}
+	if fmt.Sprint(st.Time) != fmt.Sprint(want) || fmt.Sprint(st.Stage) != "[0.512 0.515 0.52 0.53]" {
+		t.Errorf("times %v stages %v", st.Time, st.Stage)
+	}
+	if q := []string{st.QualityOf(0), st.QualityOf(1), st.QualityOf(2), st.QualityOf(3)}; strings.Join(q, "|") != "|ice|ice, partial|estimated" {
+		t.Errorf("qualities %q", q)
+	}
+	if r.Blank != 1 || len(r.Warnings) != 1 || st.Validate() != nil {
+		t.Errorf("blank %d warnings %q", r.Blank, r.Warnings)
+	}
+	// Times without an offset are at the offset given.
+	r, err = ParseStageRecord(strings.NewReader("time,gauge_height\n2024-05-01T10:00,1\n2024-05-01T10:15Z,1\n"), "s.csv", StageRecordOptions{UTCOffset: 10 * time.Hour})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Stages.Time[0] != utcUnix(2024, 5, 1, 0, 0, 0) || r.Stages.Time[1] != utcUnix(2024, 5, 1, 10, 15, 0) || r.Stages.Quality != nil {
+		t.Errorf("times %v", r.Stages.Time)
+	}
+}
+
+// Bad stage records: each error names file:row:column and, for times out
+// of order, the row before.
+func TestParseStageRecordErrors(t *testing.T) {
+	const head = "time,stage\n"
+	for _, tc := range []struct {
+		name, in string
+		want     []string
+		is       error
+	}{
+		{"bad time", head + "2024-05-01T00:00,1\n2024-13-01T00:15,1\n", []string{"s.csv:3:1", `time "2024-13-01T00:15"`}, ErrISOTime},
+		{"repeated", head + "2024-05-01T00:00,1\n2024-05-01T10:00+10:00,1\n", []string{"s.csv:3:1", "row 2"}, ErrRepeatedTime},
+		{"unsorted", head + "2024-05-01T00:30,1\n2024-05-01T00:15,1\n", []string{"s.csv:3:1", "before 2024-05-01T00:30:00Z, the time of row 2"}, ErrTimeOrder},
+		{"unsorted after a comment", head + "2024-05-01T00:30,1\n# moved\n\n2024-05-01T00:15,1\n", []string{"s.csv:5:1", "row 2"}, ErrTimeOrder},
+		{"decimal comma", head + "2024-05-01T00:30,\"1,5\"\n", []string{"s.csv:2:2", `stage "1,5"`}, ErrDecimalComma},
+		{"not a number", head + "2024-05-01T00:30,abc\n", []string{"s.csv:2:2"}, ErrNotNumber},
+		{"infinite", head + "2024-05-01T00:30,1e999\n", []string{"s.csv:2:2"}, ErrNotNumber},
+		{"blank time", head + ",1\n", []string{"s.csv:2:1", "blank"}, ErrBlankTime},
+		{"sub-second", head + "2024-05-01T00:30:00.5Z,1\n", []string{"s.csv:2:1"}, ErrSubSecond},
+		{"serial in CSV", head + "45000.5,1\n", []string{"s.csv:2:1"}, ErrSerialInCSV},
+		{"no stage column", "time,level\n2024-05-01,1\n", []string{"s.csv:1", "stage"}, ErrMissingColumn},
+		{"semicolons", "time;stage\n2024-05-01;1\n", []string{"s.csv:1"}, ErrSemicolon},
+		{"no rows", head + "# nothing\n", []string{"no data rows"}, ErrEmpty},
+		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows"}, ErrEmpty},
+		{"bare quote", head + "2024-05-01,1\"2\n", []string{"s.csv:2:"}, csv.ErrBareQuote},
+		{"two bad rows", head + "x,1\n2024-05-01,y\n", []string{"s.csv:2:1", "s.csv:3:2"}, ErrISOTime},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseStageRecord(strings.NewReader(tc.in), "s.csv", StageRecordOptions{})
+			if err == nil {
+				t.Fatal("no error")
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q does not say %q", err, w)
+				}
+			}
+			if !errors.Is(err, tc.is) {
+				t.Errorf("error %q is not %v", err, tc.is)
+			}
+		})
+	}
+	// A file of many bad rows reports MaxReported and counts the rest.
+	var b strings.Builder
+	b.WriteString(head)
+	for i := range 100 {
+		fmt.Fprintf(&b, "2024-05-01T%02d:%02d,bad\n", i/60, i%60)
+	}
+	_, err := ParseStageRecord(strings.NewReader(b.String()), "s.csv", StageRecordOptions{})
+	if err == nil || !strings.Contains(err.Error(), "80 more errors not shown") || strings.Count(err.Error(), "\n") != MaxReported {
+		t.Errorf("many errors: %v", err)
+	}
+	if _, err := ParseStageRecord(strings.NewReader(head), "s.csv", StageRecordOptions{UTCOffset: 15 * time.Hour}); !errors.Is(err, record.ErrUTCOffset) {
+		t.Errorf("offset 15 h: %v", err)
+	}
+}
+
+// A stage record in a workbook: date serials (at the offset given) and
+// text times, errors as cell references.
+func TestReadStageRecordWorkbook(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "stage.xlsx")
+	wb := excelize.NewFile()
+	rows := [][]any{
+		{"time", "stage (m)", "quality"},
+		{45413.0, 0.51, ""},   // 2024-05-01 00:00 local
+		{45413.25, 0.55, "E"}, // 06:00
+		{"2024-05-01T12:00+00:00", 0.6, ""},
+	}
+	for i, r := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		if err := wb.SetSheetRow("Sheet1", cell, &r); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := wb.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	r, err := ReadStageRecord(path, StageRecordOptions{UTCOffset: 2 * time.Hour})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []int64{utcUnix(2024, 4, 30, 22, 0, 0), utcUnix(2024, 5, 1, 4, 0, 0), utcUnix(2024, 5, 1, 12, 0, 0)}
+	if fmt.Sprint(r.Stages.Time) != fmt.Sprint(want) || r.Stages.QualityOf(1) != "E" || r.Sheet != "Sheet1" {
+		t.Errorf("times %v, quality %q", r.Stages.Time, r.Stages.QualityOf(1))
+	}
+	if err := wb.SetCellValue("Sheet1", "B3", "x"); err != nil {
+		t.Fatal(err)
+	}
+	if err := wb.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ReadStageRecord(path, StageRecordOptions{}); err == nil || !strings.Contains(err.Error(), "stage.xlsx['Sheet1']!B3") {
+		t.Errorf("bad cell in a workbook: %v", err)
+	}
+}
+
+// TestParseISOTime checks the hand-written parser against the standard
+// library's time.Date on written-out cases.
+func TestParseISOTime(t *testing.T) {
+	for _, tc := range []struct {
+		in   string
+		off  time.Duration
+		want time.Time
+		is   error
+	}{
+		{"2024-03-05", 0, time.Date(2024, 3, 5, 0, 0, 0, 0, time.UTC), nil},
+		{"2024-03-05T14:30", 0, time.Date(2024, 3, 5, 14, 30, 0, 0, time.UTC), nil},
+		{"2024-03-05 14:30:15", 0, time.Date(2024, 3, 5, 14, 30, 15, 0, time.UTC), nil},
+		{"2024-03-05t14:30:15z", 0, time.Date(2024, 3, 5, 14, 30, 15, 0, time.UTC), nil},
+		{"2024-03-05T14:30+10:00", 0, time.Date(2024, 3, 5, 4, 30, 0, 0, time.UTC), nil},
+		{"2024-03-05T14:30:00-0530", 0, time.Date(2024, 3, 5, 20, 0, 0, 0, time.UTC), nil},
+		{"2024-03-05T14:30-05", 0, time.Date(2024, 3, 5, 19, 30, 0, 0, time.UTC), nil},
+		{"2024-03-05T14:30", -5 * time.Hour, time.Date(2024, 3, 5, 19, 30, 0, 0, time.UTC), nil},
+		{"2024-03-05", 10 * time.Hour, time.Date(2024, 3, 4, 14, 0, 0, 0, time.UTC), nil},
+		{"2024-02-29T23:59:59,000", 0, time.Date(2024, 2, 29, 23, 59, 59, 0, time.UTC), nil},
+		{"1899-12-31T23:00Z", 0, time.Date(1899, 12, 31, 23, 0, 0, 0, time.UTC), nil},
+		{"2023-02-29", 0, time.Time{}, ErrISOTime},
+		{"2024-03-05T24:00", 0, time.Time{}, ErrISOTime},
+		{"2024-03-05T14:60", 0, time.Time{}, ErrISOTime},
+		{"2024-03-05T14:30:00.25", 0, time.Time{}, ErrSubSecond},
+		{"2024-03-05T14", 0, time.Time{}, ErrISOTime},
+		{"2024-03-05T14:30+1:00", 0, time.Time{}, ErrISOTime},
+		{"2024-03-05T14:30 +10:00", 0, time.Time{}, ErrISOTime},
+		{"05/03/2024", 0, time.Time{}, ErrISOTime},
+		{"2024-3-5", 0, time.Time{}, ErrISOTime},
+	} {
+		got, err := ParseISOTime(tc.in, tc.off)
+		if !errors.Is(err, tc.is) || tc.is == nil && !got.Equal(tc.want) {
+			t.Errorf("%q (offset %v): %v, %v; want %v, %v", tc.in, tc.off, got, err, tc.want, tc.is)
+		}
+	}
+}
+
+// TestParseDecimal: the fast path gives what ParseNumber gives, bit for bit.
+func TestParseDecimal(t *testing.T) {
+	for _, s := range []string{"0", "-0", "1", "0.1", "0.3", "123.456", "-7.25", "+3.5", ".5", "5.", "999999999999999", "0.000000000000001",
+		"1234567890.12345", "12345678901234567", "0.1234567890123456789", "1e3", "abc", "", ".", "-", "1,5", "NaN", "Inf", "0x1p3", "1.2.3"} {
+		want, werr := ParseNumber(s)
+		got, gerr := parseDecimal([]byte(s))
+		if (werr == nil) != (gerr == nil) || !errors.Is(gerr, werr) || math.Float64bits(got) != math.Float64bits(want) && werr == nil {
+			t.Errorf("%q: %v, %v; ParseNumber %v, %v", s, got, gerr, want, werr)
+		}
+	}
+}
+
+// readAllCSV reads CSV text the way ParseCSV does (encoding/csv with the
+// same settings, blank records skipped, fields trimmed), for comparison.
+func readAllCSV(in string) ([][]string, []int, error) {
+	br := strings.NewReader(strings.TrimPrefix(in, "\ufeff"))
+	cr := csv.NewReader(br)
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	cr.TrimLeadingSpace = true
+	var recs [][]string
+	var lines []int
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			return recs, lines, nil
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+		rec = trimAll(rec)
+		if blank(rec) {
+			continue
+		}
+		line, _ := cr.FieldPos(0)
+		recs, lines = append(recs, rec), append(lines, line)
+	}
+}
+
+// streamAll reads CSV text with csvStream.
+func streamAll(in string) ([][]string, []int, error) {
+	cs := newCSVStream(strings.NewReader(in), "x.csv")
+	var recs [][]string
+	var lines []int
+	for {
+		f, line, err := cs.next()
+		if err == io.EOF {
+			return recs, lines, nil
+		}
+		if err != nil {
+			return nil, nil, err
+		}
+		rec := make([]string, len(f))
+		for i, b := range f {
+			rec[i] = string(b)
+		}
+		recs, lines = append(recs, rec), append(lines, line)
+	}
+}
+
+// checkStreamMatches fails unless csvStream reads in as encoding/csv does
+// (the reference): the same records on the same lines, or an error for
+// both.
+func checkStreamMatches(t *testing.T, in string) {
+	t.Helper()
+	want, wl, werr := readAllCSV(in)
+	got, gl, gerr := streamAll(in)
+	if (werr == nil) != (gerr == nil) {
+		t.Fatalf("%q: stream error %v, encoding/csv error %v", in, gerr, werr)
+	}
+	if werr == nil && (fmt.Sprintf("%q", got) != fmt.Sprintf("%q", want) || fmt.Sprint(gl) != fmt.Sprint(wl)) {
+		t.Fatalf("%q:\nstream %q at %v\ncsv    %q at %v", in, got, gl, want, wl)
+	}
+}
+
+func TestCSVStreamMatchesEncodingCSV(t *testing.T) {
+	for _, in := range []string{
+		"a,b\n1,2\n",
+		"a,b\r\n1,2\r\n\r\n3,4",
+		"\ufeffa,b\n# c\n1,2\n",
+		"a,b\n\"1\n2\",3\n4,5\n",
+		"a,b\n \"x\",\" y \"\n",
+		"a,b\n\"x\"\"y\",z\n",
+		"a\n\"unterminated\n",
+		"a\nb\"c\n",
+		"a,b\n\"x\"y,z\n",
+		"a,b\n  ,  \n1,\n",
+		"a,b\n1,2\r",
+		"#only a comment",
+		"a,b\n\"#x\",1\n#\"\n",
+		"a\n\"1\n#2\"\n",
+	} {
+		checkStreamMatches(t, in)
+	}
+}
