@@ -82,7 +82,7 @@ type Rated struct {
 // periodRater is one compiled rating period.
 type periodRater struct {
 	from   int64 // Unix seconds; math.MinInt64 for the zero time
-	rating *Rating
+	rating *TableRating
 	times  []int64 // diagram times, Unix seconds
 	curves []curve
 	abrupt []bool
@@ -192,7 +192,7 @@ func (r *Rater) ShiftPeriod(i int) int { return r.used[i] }
 
 // Rating returns the compiled rating of period p (nil for a period without
 // one, or p out of range).
-func (r *Rater) Rating(p int) *Rating {
+func (r *Rater) Rating(p int) *TableRating {
 	if p < 0 || p >= len(r.periods) {
 		return nil
 	}

@@ -46,7 +46,7 @@ type CompareOptions struct {
 // difference B − A and the percent difference 100·(B − A)/A. Extrapolation
 // is never used: the range is where both tables have rows. Ratings that
 // share no range give ErrNoCommonRange.
-func CompareRatings(a, b *Rating, opt CompareOptions) (RatingComparison, error) {
+func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, error) {
 	alo, ahi := a.Range()
 	blo, bhi := b.Range()
 	c := RatingComparison{A: a.Name(), B: b.Name(), From: math.Max(alo, blo), To: math.Min(ahi, bhi), MaxPercent: math.NaN(), MaxStage: math.NaN()}
@@ -73,7 +73,7 @@ func CompareRatings(a, b *Rating, opt CompareOptions) (RatingComparison, error) 
 }
 
 // stages lays out the comparison's stages.
-func (c *RatingComparison) stages(a, b *Rating, step float64) ([]float64, error) {
+func (c *RatingComparison) stages(a, b *TableRating, step float64) ([]float64, error) {
 	if step > 0 {
 		return rating.StageRange(c.From, c.To, step)
 	}
@@ -81,7 +81,7 @@ func (c *RatingComparison) stages(a, b *Rating, step float64) ([]float64, error)
 		return nil, fmt.Errorf("%w: step %g", rating.ErrStages, step)
 	}
 	out := []float64{c.From, c.To}
-	for _, r := range []*Rating{a, b} {
+	for _, r := range []*TableRating{a, b} {
 		for _, h := range r.h {
 			if h > c.From && h < c.To {
 				out = append(out, h)

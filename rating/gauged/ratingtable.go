@@ -155,9 +155,9 @@ type interval struct {
 	x0, y0, b float64
 }
 
-// Rating is a compiled rating table, ready for fast lookups. It is safe
+// TableRating is a compiled rating table, ready for fast lookups. It is safe
 // for concurrent use; build it with RatingTable.Compile.
-type Rating struct {
+type TableRating struct {
 	table RatingTable
 	h, q  []float64
 	iv    []interval
@@ -165,12 +165,12 @@ type Rating struct {
 
 // Compile validates a rating table and prepares its interpolation laws.
 // Errors are *RatingError. The table is copied.
-func (t RatingTable) Compile() (*Rating, error) {
+func (t RatingTable) Compile() (*TableRating, error) {
 	if err := t.Validate(); err != nil {
 		return nil, err
 	}
 	t.Points = append([]RatingPoint(nil), t.Points...)
-	r := &Rating{table: t, h: make([]float64, len(t.Points)), q: make([]float64, len(t.Points)), iv: make([]interval, len(t.Points)-1)}
+	r := &TableRating{table: t, h: make([]float64, len(t.Points)), q: make([]float64, len(t.Points)), iv: make([]interval, len(t.Points)-1)}
 	for i, p := range t.Points {
 		r.h[i], r.q[i] = p.Stage, p.Discharge
 	}
@@ -188,20 +188,20 @@ func (t RatingTable) Compile() (*Rating, error) {
 }
 
 // Name returns the rating's name.
-func (r *Rating) Name() string { return r.table.Name }
+func (r *TableRating) Name() string { return r.table.Name }
 
 // Table returns a copy of the table the rating was compiled from.
-func (r *Rating) Table() RatingTable {
+func (r *TableRating) Table() RatingTable {
 	t := r.table
 	t.Points = append([]RatingPoint(nil), t.Points...)
 	return t
 }
 
 // Range returns the stages of the table's first and last rows.
-func (r *Rating) Range() (lo, hi float64) { return r.h[0], r.h[len(r.h)-1] }
+func (r *TableRating) Range() (lo, hi float64) { return r.h[0], r.h[len(r.h)-1] }
 
 // eval applies interval i's law at stage h.
-func (r *Rating) eval(i int, h float64) float64 {
+func (r *TableRating) eval(i int, h float64) float64 {
 	v := r.iv[i]
 	if v.log {
 		return math.Exp(v.y0 + v.b*(math.Log(h-r.table.ZeroFlow)-v.x0))
@@ -226,7 +226,7 @@ func (r *Rating) eval(i int, h float64) float64 {
 //	Techniques of Water-Resources Investigations, book 3, chap. A10.
 //	Kennedy, E.J., 1983, Computation of continuous records of streamflow:
 //	USGS Techniques of Water-Resources Investigations, book 3, chap. A13.
-func (r *Rating) Discharge(h float64) (float64, Lookup) {
+func (r *TableRating) Discharge(h float64) (float64, Lookup) {
 	if math.IsNaN(h) {
 		return math.NaN(), OutsideTable
 	}
@@ -258,7 +258,7 @@ func (r *Rating) Discharge(h float64) (float64, Lookup) {
 
 // AboveGaugings reports whether an effective gauge height lies above the
 // highest gauging of the rating (false when that is not known).
-func (r *Rating) AboveGaugings(h float64) bool {
+func (r *TableRating) AboveGaugings(h float64) bool {
 	return r.table.HasHighGauging && h > r.table.HighGauging
 }
 
@@ -267,7 +267,7 @@ func (r *Rating) AboveGaugings(h float64) bool {
 // discharge outside the table's range is an ErrBeyondTable error unless the
 // table allows extrapolation; q ≤ 0 (or NaN) is ErrRatingNoDischarge, since
 // every stage at or below zero flow carries it.
-func (r *Rating) Stage(q float64) (float64, error) {
+func (r *TableRating) Stage(q float64) (float64, error) {
 	if !(q > 0) || math.IsInf(q, 0) {
 		return math.NaN(), fmt.Errorf("%w: %g", ErrRatingNoDischarge, q)
 	}
@@ -289,7 +289,7 @@ func (r *Rating) Stage(q float64) (float64, error) {
 }
 
 // invert solves interval i's law for the stage carrying q.
-func (r *Rating) invert(i int, q float64) (float64, error) {
+func (r *TableRating) invert(i int, q float64) (float64, error) {
 	v := r.iv[i]
 	if !(v.b > 0) {
 		return math.NaN(), fmt.Errorf("%w: %g (the rating is flat there)", ErrRatingNoDischarge, q)

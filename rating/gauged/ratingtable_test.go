@@ -16,7 +16,7 @@ const (
 	percentTol = 1e-9
 )
 
-func compileRating(t *testing.T, rt RatingTable) *Rating {
+func compileRating(t *testing.T, rt RatingTable) *TableRating {
 	t.Helper()
 	r, err := rt.Compile()
 	if err != nil {
@@ -42,7 +42,7 @@ func TestRatingLogLinear(t *testing.T) {
 	extra := compileRating(t, RatingTable{Points: pts, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true})
 	for _, tc := range []struct {
 		name string
-		r    *Rating
+		r    *TableRating
 		h, q float64
 		how  Lookup
 	}{
