@@ -57,7 +57,7 @@ func TestEdgeCases(t *testing.T) {
 			_, err := plotting.CrossSection(io.Discard, plotting.SectionPlot{Size: small,
 				Section: subdivide.Section{Points: []subdivide.Point{{Station: 0, Elevation: 2}, {Station: 5, Elevation: 0}, {Station: 10, Elevation: 2}},
 					N: []float64{0.03, 0.05}},
-				Water: []plotting.WaterSurface{{Stage: 40, Shade: true}}, Geometry: subdivide.Options{Connected: true}})
+				Water: []plotting.WaterSurface{{Stage: 40, Shade: true}}, Geometry: subdivide.Options{}})
 			return err
 		}},
 		{"single reach section", func() error {

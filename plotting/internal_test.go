@@ -66,7 +66,7 @@ func TestWetPools(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			want, err := p.At(tc.stage, subdivide.Options{})
+			want, err := p.At(tc.stage, subdivide.Options{AllPools: true})
 			if err != nil {
 				t.Fatal(err)
 			}

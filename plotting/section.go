@@ -90,7 +90,7 @@ func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 	var foot []string
 	for i, ws := range water {
 		pools := wetPools(pts, ws.Stage, !s.Geometry.NoExtend)
-		if s.Geometry.Connected {
+		if !s.Geometry.AllPools {
 			pools = mainPool(pools, s.Section)
 		}
 		if ws.Shade {

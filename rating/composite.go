@@ -126,7 +126,7 @@ func CompositeGeometry(g subdivide.Geometry, c Composite) subdivide.Geometry {
 		cg.group[i] = last
 	}
 	// The layout's n is the composite n at the top stage.
-	if w, err := cg.At(g.Top(), subdivide.Options{}); err == nil {
+	if w, err := cg.At(g.Top(), subdivide.Options{AllPools: true}); err == nil {
 		for i := range cg.layout {
 			cg.layout[i].N = w.Subs[i].N
 		}

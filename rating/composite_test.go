@@ -78,7 +78,7 @@ func TestCompositeGeometry(t *testing.T) {
 			t.Fatalf("%v: name %q, %d subsections", c, tab.Name, len(tab.Subsections))
 		}
 		for i, r := range tab.Rows {
-			w, _ := p.At(r.Stage, subdivide.Options{})
+			w, _ := p.At(r.Stage, subdivide.Options{AllPools: true})
 			var ps, as, ns []float64
 			for _, s := range w.Subs {
 				ps, as, ns = append(ps, s.WettedPerimeter), append(as, s.Area), append(ns, s.N)

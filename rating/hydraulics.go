@@ -36,6 +36,11 @@ type Row struct {
 	ExtendedLeft, ExtendedRight float64
 	// Pools is the number of separate wetted reaches counted.
 	Pools int
+	// PondedArea is the area of water standing in pockets behind higher
+	// ground that was not counted as flowing (area unit), and PondedPools
+	// the number of those pockets (see subdivide.Options).
+	PondedArea  float64
+	PondedPools int
 	// Full reports a closed conduit flowing full.
 	Full bool
 	// Flags are short quality notes on the row (see the Flag constants).
@@ -47,8 +52,9 @@ const (
 	// FlagAboveEnd: the stage is above an end of the section, which was
 	// extended with a vertical wall.
 	FlagAboveEnd = "above_end"
-	// FlagPools: the water stands in more than one separate pool and all
-	// were counted.
+	// FlagPools: the water stands in more than one separate pool: pockets
+	// behind higher ground were left out as not flowing (PondedArea), or,
+	// when every pool is counted, several pools were counted.
 	FlagPools = "pools"
 	// FlagNearCritical: Froude number above NearCriticalFroude; a Manning
 	// rating is doubtful where the flow is near critical.
@@ -105,7 +111,7 @@ func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 		HydraulicRadius: w.HydraulicRadius, HydraulicDepth: w.HydraulicDepth,
 		Subs:         make([]SubRow, len(w.Subs)),
 		ExtendedLeft: w.ExtendedLeft, ExtendedRight: w.ExtendedRight,
-		Pools: w.Pools, Full: w.Full,
+		Pools: w.Pools, Full: w.Full, PondedArea: w.Ponded, PondedPools: w.PondedPools,
 	}
 	if r.Depth < 0 {
 		r.Depth = 0
@@ -145,7 +151,7 @@ func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 	if r.ExtendedLeft > 0 || r.ExtendedRight > 0 {
 		r.Flags = append(r.Flags, FlagAboveEnd)
 	}
-	if r.Pools > 1 {
+	if r.Pools > 1 || r.PondedPools > 0 {
 		r.Flags = append(r.Flags, FlagPools)
 	}
 	switch {

@@ -18,7 +18,7 @@ func compile(t testing.TB, s subdivide.Section) *subdivide.Profile {
 
 func rowAt(t testing.TB, p *subdivide.Profile, stage, slope float64, u Units) Row {
 	t.Helper()
-	w, err := p.At(stage, subdivide.Options{})
+	w, err := p.At(stage, subdivide.Options{AllPools: true})
 	if err != nil {
 		t.Fatal(err)
 	}

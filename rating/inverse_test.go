@@ -468,7 +468,7 @@ func BenchmarkSolveConduit(b *testing.B) {
 // with NoExtend is not.
 func TestSearchAboveTop(t *testing.T) {
 	g := mustShape(t, "trapezoid:bottom=1,side=1", 0.03) // nominal top 1 m
-	opt := Options{Slope: 0.001, Geometry: subdivide.Options{NoExtend: true}}
+	opt := Options{Slope: 0.001, Geometry: subdivide.Options{AllPools: true, NoExtend: true}}
 	roots, err := NormalStages(g, 50, opt)
 	if err != nil || len(roots) != 1 || !(roots[0].Depth > 1) {
 		t.Fatalf("open-ended trapezoid: %+v, %v", roots, err)

@@ -54,10 +54,11 @@ func DefaultStages(g subdivide.Geometry) []float64 {
 		return []float64{lo}
 	}
 	step := NiceStep((hi - lo) / MaxDefaultRows)
-	start := math.Ceil(lo/step-StageEpsilon) * step
+	k0 := math.Ceil(lo/step - StageEpsilon)
+	start := multiple(k0, step)
+	n := int(math.Ceil((hi-start)/step + StageEpsilon))
 	out := []float64{lo}
-	for i := 0; ; i++ {
-		h := start + float64(i)*step
+	for _, h := range steppedStages(start, step, max(n, 0)) {
 		if h >= hi-step*StageEpsilon {
 			break
 		}
@@ -94,7 +95,8 @@ const MaxStages = 10_000_000
 
 // StageRange returns stages from `from` to `to` inclusive in steps of
 // `step` (> 0). The last stage is `to` even when the step does not divide
-// the range.
+// the range. Stages of decimal steps are exact decimals: from 100.3 in
+// steps of 0.1 the 34th stage is 103.6, not 103.60000000000001.
 func StageRange(from, to, step float64) ([]float64, error) {
 	if !finiteAll(from, to, step) || !(step > 0) || to < from {
 		return nil, fmt.Errorf("%w: from %g to %g step %g: need from ≤ to and step > 0", ErrStages, from, to, step)
@@ -103,10 +105,7 @@ func StageRange(from, to, step float64) ([]float64, error) {
 	if n+2 > MaxStages {
 		return nil, fmt.Errorf("%w: %g stages is more than %d", ErrStages, n+1, MaxStages)
 	}
-	out := make([]float64, 0, int(n)+2)
-	for i := 0; i <= int(n); i++ {
-		out = append(out, from+float64(i)*step)
-	}
+	out := steppedStages(from, step, int(n))
 	if to-out[len(out)-1] > step*StageEpsilon*10 {
 		out = append(out, to)
 	}
@@ -143,14 +142,16 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
 		return t, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
 	}
-	var maxL, maxR, maxStage float64
-	pools := 0
+	var maxL, maxR, maxStage, ponded float64
+	pools, pondedStages := 0, 0
 	maxStage = math.Inf(-1)
 	add := func(r Row) {
 		maxL = math.Max(maxL, r.ExtendedLeft)
 		maxR = math.Max(maxR, r.ExtendedRight)
-		if r.Pools > pools {
-			pools = r.Pools
+		pools = max(pools, r.Pools)
+		if r.PondedPools > 0 {
+			pondedStages++
+			ponded = math.Max(ponded, r.PondedArea)
 		}
 		maxStage = math.Max(maxStage, r.Stage)
 	}
@@ -182,10 +183,7 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 			"conveyance falls as the stage rises at %d stage(s) (flagged %s): the subdivision may not suit the section; check bank stations and n", n, FlagConveyanceDrop))
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
-	if pools > 1 && !opt.Geometry.Connected {
-		t.Warnings = append(t.Warnings, fmt.Sprintf(
-			"at some stages the water stands in %d separate pools; all are counted (use --connected to keep only the main channel's)", pools))
-	}
+	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
 	return t, nil
 }
 
@@ -201,6 +199,23 @@ func ExtensionWarnings(left, right, maxStage float64, u Units) []string {
 			maxStage, u.Length(), right, u.Length()))
 	}
 	return out
+}
+
+// PoolWarnings words the warnings for water standing apart from the main
+// channel: left out as not flowing at pondedStages stages (at most ponded
+// area unit), or, when every pool is counted, counted in up to pools
+// separate pools.
+func PoolWarnings(pools, pondedStages int, ponded float64, g subdivide.Options, u Units) []string {
+	switch {
+	case g.AllPools && pools > 1:
+		return []string{fmt.Sprintf(
+			"at some stages the water stands in %d separate pools and all of them are counted as flowing; water in a pocket behind higher ground stores but does not convey in steady flow", pools)}
+	case pondedStages > 0:
+		return []string{fmt.Sprintf(
+			"at %d stage(s) water stands in pockets behind higher ground, apart from the main channel (up to %.4g %s, flagged %s): it is left out as not flowing until the ground between is overtopped",
+			pondedStages, ponded, u.Area(), FlagPools)}
+	}
+	return nil
 }
 
 // SortedStages returns a sorted copy of stages without duplicates.

@@ -84,7 +84,7 @@ func TestComputeSweepMatchesClip(t *testing.T) {
 		for i := range stages {
 			stages[i] = 99.5 + 0.25*float64(rng.IntN(24))
 		}
-		for _, gopt := range []subdivide.Options{{}, {Connected: true}, {NoExtend: true}} {
+		for _, gopt := range []subdivide.Options{{AllPools: true}, {}, {AllPools: true, NoExtend: true}} {
 			opt := rating.Options{Slope: 0.001, Geometry: gopt}
 			a, errA := rating.Compute(p, stages, opt)
 			b, errB := rating.Compute(clipOnly{p}, stages, opt)

@@ -50,7 +50,7 @@ func benchSweep(b *testing.B, n, m int) {
 	stages := stageSteps(p, m)
 	b.ReportAllocs()
 	for b.Loop() {
-		err := p.Sweep(stages, subdivide.Options{}, func(i int, w subdivide.Wetted, err error) error {
+		err := p.Sweep(stages, subdivide.Options{AllPools: true}, func(i int, w subdivide.Wetted, err error) error {
 			benchSink += w.Area
 			return err
 		})
@@ -69,7 +69,7 @@ func benchClip(b *testing.B, n, m int) {
 	b.ReportAllocs()
 	for b.Loop() {
 		for _, h := range stages {
-			w, err := p.At(h, subdivide.Options{})
+			w, err := p.At(h, subdivide.Options{AllPools: true})
 			if err != nil {
 				b.Fatal(err)
 			}

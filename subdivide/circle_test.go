@@ -26,7 +26,7 @@ func TestConduitTable(t *testing.T) {
 	for _, d := range []float64{1, 0.45, 3} {
 		c := &Conduit{Diameter: d, Invert: 10, N: 0.013}
 		for _, tt := range tests {
-			w, err := c.At(10+tt.yd*d, Options{})
+			w, err := c.At(10+tt.yd*d, Options{AllPools: true})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -44,7 +44,7 @@ func TestConduitClosedForm(t *testing.T) {
 	c := &Conduit{Diameter: 2, N: 0.013}
 	// Half full: A = πr²/2, P = πr, T = D, centroid 4r/(3π) below the
 	// surface (centroid of a semicircle; plane geometry).
-	w, err := c.At(1, Options{})
+	w, err := c.At(1, Options{AllPools: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -60,17 +60,17 @@ func TestConduitClosedForm(t *testing.T) {
 		}
 	}
 	// Full: whole circumference, zero top width, Full set.
-	w, err = c.At(2, Options{})
+	w, err = c.At(2, Options{AllPools: true})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if !w.Full || w.TopWidth != 0 || math.Abs(w.WettedPerimeter-2*math.Pi) > 1e-12 || math.Abs(w.Area-math.Pi) > 1e-12 {
 		t.Errorf("full: %+v", w)
 	}
-	if _, err := c.At(2.01, Options{}); !errors.Is(err, ErrAboveCrown) {
+	if _, err := c.At(2.01, Options{AllPools: true}); !errors.Is(err, ErrAboveCrown) {
 		t.Errorf("above the crown: %v, want ErrAboveCrown", err)
 	}
-	if w, _ := c.At(-1, Options{}); w.Area != 0 || w.Pools != 0 {
+	if w, _ := c.At(-1, Options{AllPools: true}); w.Area != 0 || w.Pools != 0 {
 		t.Errorf("below the invert: %+v", w)
 	}
 }
@@ -93,8 +93,8 @@ func TestConduitPolygon(t *testing.T) {
 	c := &Conduit{Diameter: d}
 	const polyTol = 1e-6 // O((π/m)²) chord error
 	for _, y := range []float64{0.01, 0.2, 0.37, 0.5} {
-		wc, _ := c.At(y, Options{})
-		wp, _ := p.At(y, Options{})
+		wc, _ := c.At(y, Options{AllPools: true})
+		wp, _ := p.At(y, Options{AllPools: true})
 		if math.Abs(wc.Area-wp.Area) > polyTol || math.Abs(wc.WettedPerimeter-wp.WettedPerimeter) > polyTol ||
 			math.Abs(wc.TopWidth-wp.TopWidth) > polyTol || math.Abs(wc.CentroidDepth-wp.CentroidDepth) > polyTol {
 			t.Errorf("y %g: circle %v %v %v %v, polygon %v %v %v %v", y, wc.Area, wc.WettedPerimeter, wc.TopWidth, wc.CentroidDepth,

@@ -5,14 +5,20 @@ import (
 	"math"
 )
 
-// Options control how a section is wetted at a stage. The zero value counts
-// every wetted pocket and extends the section's ends with vertical walls.
+// Options control how a section is wetted at a stage. The zero value
+// counts only the water connected to the main channel and extends the
+// section's ends with vertical walls.
+//
+// By default only the wetted reach that holds the main channel counts:
+// the reach containing the lowest point between the bank stations, or the
+// lowest point of the section when it has no banks. Water standing in a
+// pocket behind higher ground (a levee, a back-swamp) stores but does not
+// convey in steady flow until the ground between is overtopped, and is
+// left out (its pool is still counted in Wetted.Pools).
 type Options struct {
-	// Connected keeps only the wetted reach that holds the main channel:
-	// the reach containing the lowest point between the bank stations, or
-	// the lowest point of the section when it has no banks. Pockets behind
-	// higher ground (a levee, a back-swamp) are then left out.
-	Connected bool
+	// AllPools counts every wetted pocket, connected to the main channel
+	// or not.
+	AllPools bool
 	// NoExtend makes a stage above either end of the section an error
 	// (ErrAboveEnds) instead of extending that end with a vertical wall.
 	NoExtend bool
@@ -55,6 +61,12 @@ type Wetted struct {
 	ExtendedLeft, ExtendedRight float64
 	// Pools is the number of separate wetted reaches that were counted.
 	Pools int
+	// Ponded is the flow area of water standing in pockets that were not
+	// counted (behind higher ground, not connected to the main channel),
+	// and PondedPools the number of those pockets; both zero with
+	// Options.AllPools.
+	Ponded      float64
+	PondedPools int
 	// Full reports a closed conduit flowing full.
 	Full bool
 }
@@ -77,6 +89,9 @@ type Profile struct {
 	subs   []Subsection
 	// chanLow is the index of the lowest point of the main channel.
 	chanLow int
+	// pockets reports a ground line on which water can stand apart from
+	// the main channel (see Sweep).
+	pockets bool
 }
 
 // Compile validates a section, inserts points at the bank stations and
@@ -148,6 +163,9 @@ func Compile(s Section) (*Profile, error) {
 			p.chanLow = i
 		}
 	}
+	// Water can be left out where the ground holds separate pools, or
+	// where ground outside the channel is lower than the channel's bed.
+	p.pockets = hasPockets(p.zs) || p.zs[p.chanLow] > 0
 	return p, nil
 }
 
@@ -201,23 +219,27 @@ func (p *Profile) At(stage float64, opt Options) (Wetted, error) {
 	n := len(p.xs)
 	// Pool numbering: a new pool may start after every dry vertex.
 	keep := -1
-	if opt.Connected {
-		keep = p.poolOf(p.chanLow, h)
-		if keep < 0 {
-			return p.finish(w), nil
+	if !opt.AllPools {
+		if keep = p.poolOf(p.chanLow, h); keep < 0 {
+			keep = -2 // the main channel is dry: nothing is counted
 		}
 	}
-	pool, lastPool := 0, -1
+	pool, lastPool, lastPond := 0, -1, -1
 	var moment float64
 	for i := 0; i < n-1; i++ {
 		if h-p.zs[i] <= 0 {
 			pool++
 		}
-		if keep >= 0 && pool != keep {
-			continue
-		}
 		a, perim, width, mom := segment(p.xs[i], p.zs[i], p.xs[i+1], p.zs[i+1], h)
 		if perim == 0 && a == 0 {
+			continue
+		}
+		if keep != -1 && pool != keep {
+			w.Ponded += a
+			if pool != lastPond {
+				w.PondedPools++
+				lastPond = pool
+			}
 			continue
 		}
 		if pool != lastPool {
@@ -230,9 +252,12 @@ func (p *Profile) At(stage float64, opt Options) (Wetted, error) {
 		sw.TopWidth += width
 		moment += mom
 	}
+	if keep == -2 {
+		return p.finish(w), nil
+	}
 	// End walls: only where the counted water reaches the end.
-	left := keep < 0 || keep == p.poolOfSegment(0, h)
-	right := keep < 0 || keep == p.poolOfSegment(n-2, h)
+	left := keep == -1 || keep == p.poolOfSegment(0, h)
+	right := keep == -1 || keep == p.poolOfSegment(n-2, h)
 	if err := p.walls(&w, h, stage, left, right, opt.NoExtend); err != nil {
 		return w, err
 	}
@@ -310,4 +335,20 @@ func segment(x1, z1, x2, z2, h float64) (area, perim, width, moment float64) {
 	d := math.Max(d1, d2)
 	f := d / (math.Abs(d1) + math.Abs(d2)) // wet fraction of the segment
 	return d * f * dx / 2, f * length, f * dx, d * d * f * dx / 6
+}
+
+// hasPockets reports whether a ground line can hold separate pools: it
+// falls again after rising (an interior high point between two lower
+// ones). A line that only falls then rises holds one pool at any stage.
+func hasPockets(zs []float64) bool {
+	rose := false
+	for i := 1; i < len(zs); i++ {
+		switch {
+		case zs[i] > zs[i-1]:
+			rose = true
+		case zs[i] < zs[i-1] && rose:
+			return true
+		}
+	}
+	return false
 }

@@ -66,7 +66,7 @@ func TestClosedForm(t *testing.T) {
 	const tol = 1e-12
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
-			w, err := mustCompile(t, c.sec).At(c.stage, Options{})
+			w, err := mustCompile(t, c.sec).At(c.stage, Options{AllPools: true})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -92,7 +92,7 @@ func TestCentroidDepth(t *testing.T) {
 		want  float64
 		label string
 	}{{rect, 2, 1, "rectangle"}, {tri, 1.5, 0.5, "triangle"}} {
-		w, _ := c.p.At(c.y, Options{})
+		w, _ := c.p.At(c.y, Options{AllPools: true})
 		if !near(w.CentroidDepth, c.want, 1e-12) {
 			t.Errorf("%s: centroid depth %g, want %g", c.label, w.CentroidDepth, c.want)
 		}
@@ -126,7 +126,7 @@ func TestCirclePolygon(t *testing.T) {
 		a := d * d / 8 * (theta - math.Sin(theta))
 		per := d * theta / 2
 		tw := d * math.Sin(theta/2)
-		w, _ := p.At(y, Options{})
+		w, _ := p.At(y, Options{AllPools: true})
 		if !near(w.Area, a, bound) || !near(w.WettedPerimeter, per, bound) || !near(w.TopWidth, tw, bound) {
 			t.Errorf("y=%g: A, P, T = %.9g, %.9g, %.9g; want %.9g, %.9g, %.9g", y, w.Area, w.WettedPerimeter, w.TopWidth, a, per, tw)
 		}
@@ -139,17 +139,17 @@ func TestExtension(t *testing.T) {
 	// Rectangle of width 4 with walls only 1 high: at stage 3 the walls are
 	// extended by 2 on each side, so P = 4 + 2·3 (closed form).
 	p := mustCompile(t, Section{Points: []Point{{0, 1}, {0, 0}, {4, 0}, {4, 1}}})
-	w, err := p.At(3, Options{})
+	w, err := p.At(3, Options{AllPools: true})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if w.Area != 12 || w.WettedPerimeter != 10 || w.TopWidth != 4 || w.ExtendedLeft != 2 || w.ExtendedRight != 2 {
 		t.Errorf("got A=%g P=%g T=%g ext=%g,%g", w.Area, w.WettedPerimeter, w.TopWidth, w.ExtendedLeft, w.ExtendedRight)
 	}
-	if _, err := p.At(3, Options{NoExtend: true}); !errors.Is(err, ErrAboveEnds) {
+	if _, err := p.At(3, Options{AllPools: true, NoExtend: true}); !errors.Is(err, ErrAboveEnds) {
 		t.Errorf("NoExtend: err = %v, want ErrAboveEnds", err)
 	}
-	if _, err := p.At(1, Options{NoExtend: true}); err != nil {
+	if _, err := p.At(1, Options{AllPools: true, NoExtend: true}); err != nil {
 		t.Errorf("stage at the ends with NoExtend: %v", err)
 	}
 }
@@ -175,8 +175,8 @@ func leveeSection() Section {
 //	  18→20 wet to 18.5 (0.125): total 4.375.
 func TestPools(t *testing.T) {
 	p := mustCompile(t, leveeSection())
-	all, _ := p.At(2.5, Options{})
-	conn, _ := p.At(2.5, Options{Connected: true})
+	all, _ := p.At(2.5, Options{AllPools: true})
+	conn, _ := p.At(2.5, Options{})
 	if all.Pools != 2 || conn.Pools != 1 {
 		t.Errorf("pools = %d (all), %d (connected); want 2, 1", all.Pools, conn.Pools)
 	}
@@ -184,13 +184,13 @@ func TestPools(t *testing.T) {
 		t.Errorf("area = %g (all), %g (connected); want %g, %g", all.Area, conn.Area, 14.375+4.375, 14.375)
 	}
 	// Above the levee crest the two pools join: both modes agree.
-	a, _ := p.At(3.5, Options{})
-	c, _ := p.At(3.5, Options{Connected: true})
+	a, _ := p.At(3.5, Options{AllPools: true})
+	c, _ := p.At(3.5, Options{})
 	if a.Pools != 1 || !near(a.Area, c.Area, 1e-12) {
 		t.Errorf("above the crest: pools %d, areas %g vs %g", a.Pools, a.Area, c.Area)
 	}
 	// Stage exactly at the crest: the pools touch at one point only and stay separate.
-	e, _ := p.At(3, Options{})
+	e, _ := p.At(3, Options{AllPools: true})
 	if e.Pools != 2 {
 		t.Errorf("at the crest: pools %d, want 2", e.Pools)
 	}
@@ -230,7 +230,7 @@ func TestWallOnBank(t *testing.T) {
 	s := Section{Points: []Point{{0, 3}, {0, 0}, {4, 0}, {4, 2}, {10, 2}, {10, 3}},
 		N: []float64{0.03, 0.03, 0.03, 0.05, 0.05}, HasBanks: true, LeftBank: 0, RightBank: 4}
 	p := mustCompile(t, s)
-	w, _ := p.At(1, Options{})
+	w, _ := p.At(1, Options{AllPools: true})
 	ch := w.Subs[0]
 	if ch.Region != Channel || ch.WettedPerimeter != 1+4+1 {
 		t.Errorf("channel subsection %+v, want perimeter 6", ch)
@@ -310,7 +310,7 @@ func TestProperties(t *testing.T) {
 	for k := 0; k < 300; k++ {
 		s := randomSection(r)
 		p := mustCompile(t, s)
-		for _, opt := range []Options{{}, {Connected: true}} {
+		for _, opt := range []Options{{AllPools: true}, {}} {
 			prevA, prevT := -1.0, -1.0
 			for h := 99.9; h <= 105.3; h += 0.37 {
 				w, err := p.At(h, opt)
@@ -340,7 +340,16 @@ func TestProperties(t *testing.T) {
 						t.Fatalf("section %d at %g: dA/dh %g, top width %g", k, h, d, w.TopWidth)
 					}
 				}
-				if !opt.Connected {
+				if !opt.AllPools {
+					// The water left out stands in the other pools: with
+					// them it is all the water there is.
+					all, _ := p.At(h, Options{AllPools: true})
+					if !near(w.Area+w.Ponded, all.Area, 1e-12) || w.Pools+w.PondedPools != all.Pools {
+						t.Fatalf("section %d at %g: area %g + ponded %g (%d + %d pools), all pools %g (%d)",
+							k, h, w.Area, w.Ponded, w.Pools, w.PondedPools, all.Area, all.Pools)
+					}
+				}
+				if opt.AllPools {
 					// Sampling error bound: a few crossings × slope ≤ 10 ×
 					// dx² ≤ (10/2000)² / 8, well under 1e-4.
 					if ref := integrateDepth(s.Points, h); math.Abs(w.Area-ref) > 1e-4 {

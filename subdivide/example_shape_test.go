@@ -13,7 +13,7 @@ func ExampleParseShape() {
 		return
 	}
 	g, _ := s.Build(subdivide.PerRegion{Channel: 0.025})
-	w, _ := g.At(102.2, subdivide.Options{})
+	w, _ := g.At(102.2, subdivide.Options{AllPools: true})
 	// One metre deep: A = (3 + 2·1)·1 = 5 m², T = 3 + 2·2·1 = 7 m.
 	fmt.Printf("%s: area %.3f m2, top width %.3f m\n", s, w.Area, w.TopWidth)
 	_, err = subdivide.ParseShape("trapezoid:bottom=3")
@@ -25,8 +25,8 @@ func ExampleParseShape() {
 
 func ExampleConduit() {
 	c := &subdivide.Conduit{Diameter: 1, N: 0.013}
-	half, _ := c.At(0.5, subdivide.Options{})
-	full, _ := c.At(1, subdivide.Options{})
+	half, _ := c.At(0.5, subdivide.Options{AllPools: true})
+	full, _ := c.At(1, subdivide.Options{AllPools: true})
 	fmt.Printf("half: A %.4f P %.4f T %.4f\n", half.Area, half.WettedPerimeter, half.TopWidth)
 	fmt.Printf("full: A %.4f P %.4f T %.4f full %v\n", full.Area, full.WettedPerimeter, full.TopWidth, full.Full)
 	// Output:

@@ -20,7 +20,7 @@ func ExampleProfile_At() {
 		return
 	}
 	for _, stage := range []float64{0.8, 1.5} {
-		w, _ := p.At(stage, subdivide.Options{})
+		w, _ := p.At(stage, subdivide.Options{AllPools: true})
 		fmt.Printf("stage %.1f: A=%.3f P=%.3f T=%.3f R=%.3f\n", stage, w.Area, w.WettedPerimeter, w.TopWidth, w.HydraulicRadius)
 		for _, s := range w.Subs {
 			fmt.Printf("  %-14s %4.1f-%4.1f n=%.3f A=%.3f\n", s.Region, s.From, s.To, s.N, s.Area)

@@ -40,7 +40,7 @@ func FuzzParseShape(f *testing.F) {
 			if math.IsInf(h, 0) || math.IsNaN(h) {
 				return
 			}
-			if _, err := g.At(h, Options{}); err != nil && !errors.Is(err, ErrNotFinite) {
+			if _, err := g.At(h, Options{AllPools: true}); err != nil && !errors.Is(err, ErrNotFinite) {
 				t.Fatalf("%s at %g: %v", s, h, err)
 			}
 		}

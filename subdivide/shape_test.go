@@ -119,7 +119,7 @@ func TestPrismClosedForm(t *testing.T) {
 		}
 		// Depths up to four times the nominal top: above it the sides go on.
 		y := 4 * s.NominalHeight() * rng.Float64()
-		w, err := g.At(inv+y, Options{NoExtend: true})
+		w, err := g.At(inv+y, Options{AllPools: true, NoExtend: true})
 		if err != nil {
 			t.Fatalf("%s at depth %g: %v", s, y, err)
 		}
@@ -149,7 +149,7 @@ func TestPrismHeight(t *testing.T) {
 	if g.Top() != 1 {
 		t.Errorf("top %g, want 1", g.Top())
 	}
-	w, err := g.At(1.5, Options{})
+	w, err := g.At(1.5, Options{AllPools: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -158,7 +158,7 @@ func TestPrismHeight(t *testing.T) {
 	if math.Abs(w.Area-5) > 1e-12 || w.ExtendedLeft != 0.5 || w.ExtendedRight != 0.5 {
 		t.Errorf("area %g, walls %g %g; want 5, 0.5, 0.5", w.Area, w.ExtendedLeft, w.ExtendedRight)
 	}
-	if _, err := g.At(1.5, Options{NoExtend: true}); !errors.Is(err, ErrAboveEnds) {
+	if _, err := g.At(1.5, Options{AllPools: true, NoExtend: true}); !errors.Is(err, ErrAboveEnds) {
 		t.Errorf("NoExtend above the top: %v, want ErrAboveEnds", err)
 	}
 }
@@ -183,7 +183,7 @@ func TestCompoundShape(t *testing.T) {
 	// Closed form at depth 2.5 (1 m over the floodplains): channel strip
 	// A = trapezoid to 1.5 plus 5 m × 1 m; each floodplain a trapezoid of
 	// bottom 20, one side slope 3 (outer) and one vertical side, depth 1.
-	w, err := g.At(2.5, Options{NoExtend: true})
+	w, err := g.At(2.5, Options{AllPools: true, NoExtend: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -198,7 +198,7 @@ func TestCompoundShape(t *testing.T) {
 		t.Errorf("floodplain %g %g, want %g %g", w.Subs[0].Area, w.Subs[0].WettedPerimeter, af, pf)
 	}
 	// Above the nominal top (3 m) the outer banks go on at slope 3.
-	w, err = g.At(4, Options{NoExtend: true})
+	w, err = g.At(4, Options{AllPools: true, NoExtend: true})
 	if err != nil {
 		t.Fatal(err)
 	}

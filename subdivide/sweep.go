@@ -43,7 +43,7 @@ type StageFunc func(i int, w Wetted, err error) error
 // (partly wet segments + wet ends)/2, since every wetted reach is bounded
 // by a partly wet segment or an end of the section on each side.
 //
-// With Options.Connected the wetted reach holding the main channel's lowest
+// By default (without Options.AllPools) the wetted reach holding the main channel's lowest
 // point only grows as the stage rises: its bounding dry points move outward
 // monotonically, so they are tracked by two pointers and the reach between
 // them is fully wet but for its two boundary segments.
@@ -71,8 +71,18 @@ func (p *Profile) Sweep(stages []float64, opt Options, fn StageFunc) error {
 		hs[k] = stages[i] - p.z0
 	}
 	sw := newSweeper(p, opt, hs)
+	var all *sweeper // every pool, for the water left standing in pockets
+	if !opt.AllPools && p.pockets {
+		all = newSweeper(p, Options{AllPools: true}, hs)
+	}
 	for k, i := range order {
 		w, err := sw.at(k, stages[i])
+		if all != nil {
+			aw, aerr := all.at(k, stages[i])
+			if err == nil && aerr == nil && aw.Pools > w.Pools {
+				w.Ponded, w.PondedPools = math.Max(0, aw.Area-w.Area), aw.Pools-w.Pools
+			}
+		}
 		if e := fn(i, w, err); e != nil {
 			return e
 		}
@@ -102,14 +112,14 @@ type sweeper struct {
 	partly                       []int32 // partly wet segments, any order
 	slot                         []int32 // index of a segment in partly, or -1
 	connected, chanWet           bool
-	left, right                  int // Connected: dry points bounding the reach
+	left, right                  int // connected: dry points bounding the reach
 	subTemplate                  []SubWetted
 	nv                           int // number of points
 }
 
 // newSweeper prepares a sweep over the shifted stages hs (ascending).
 //
-// Without Options.Connected every segment is put in the bucket of the
+// With Options.AllPools every segment is put in the bucket of the
 // first stage that wets it and of the first that wets it fully. A point
 // at shifted elevation z is first wet at stage number k(z), the first k
 // with hs[k] > z; a segment is partly wet from min(k(z1), k(z2)) and
@@ -122,14 +132,14 @@ func newSweeper(p *Profile, opt Options, hs []float64) *sweeper {
 	s := &sweeper{
 		p: p, opt: opt,
 		subA: make([]float64, len(p.subs)), subT: make([]float64, len(p.subs)), subP: make([]float64, len(p.subs)),
-		connected: opt.Connected,
+		connected: !opt.AllPools,
 		nv:        n,
 	}
 	s.subTemplate = make([]SubWetted, len(p.subs))
 	for i, sub := range p.subs {
 		s.subTemplate[i].Subsection = sub
 	}
-	if opt.Connected {
+	if !opt.AllPools {
 		return s
 	}
 	m := len(hs)

@@ -19,7 +19,7 @@ func ExampleProfile_Sweep() {
 		return
 	}
 	stages := []float64{5, 3, 4}
-	err = p.Sweep(stages, subdivide.Options{}, func(i int, w subdivide.Wetted, err error) error {
+	err = p.Sweep(stages, subdivide.Options{AllPools: true}, func(i int, w subdivide.Wetted, err error) error {
 		if err != nil {
 			return err
 		}

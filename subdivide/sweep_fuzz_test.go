@@ -58,7 +58,7 @@ func FuzzSweep(f *testing.F) {
 		for i, b := range stageData {
 			stages[i] = 99 + float64(b)*0.0625
 		}
-		opt := subdivide.Options{Connected: flags&1 != 0, NoExtend: flags&2 != 0}
+		opt := subdivide.Options{AllPools: flags&1 == 0, NoExtend: flags&2 != 0}
 		ws, errs := sweepAll(t, p, stages, opt)
 		for i, h := range stages {
 			want, werr := p.At(h, opt)

@@ -173,11 +173,20 @@ func diffWetted(got, want subdivide.Wetted) string {
 			return fmt.Sprintf("%s = %.17g, want %.17g", f.name, f.g, f.w)
 		}
 	}
-	if got.Pools != want.Pools || got.Full != want.Full {
-		return fmt.Sprintf("Pools %d Full %v, want %d %v", got.Pools, got.Full, want.Pools, want.Full)
+	if got.Pools != want.Pools || got.Full != want.Full || got.PondedPools != want.PondedPools {
+		return fmt.Sprintf("Pools %d Full %v ponded pools %d, want %d %v %d", got.Pools, got.Full, got.PondedPools, want.Pools, want.Full, want.PondedPools)
+	}
+	// The sweep finds the ponded area as a difference of two sums: it
+	// holds the round-off of the whole area.
+	if math.Abs(got.Ponded-want.Ponded) > pondedTol*math.Max(1, got.Area+got.Ponded) {
+		return fmt.Sprintf("Ponded = %.17g, want %.17g", got.Ponded, want.Ponded)
 	}
 	return ""
 }
+
+// pondedTol is the relative round-off allowed in a ponded area found by
+// difference.
+const pondedTol = 1e-9
 
 // checkSweep compares Sweep with At at every stage.
 func checkSweep(t *testing.T, s subdivide.Section, stages []float64, opt subdivide.Options) bool {
@@ -205,7 +214,7 @@ func checkSweep(t *testing.T, s subdivide.Section, stages []float64, opt subdivi
 }
 
 var allOptions = []subdivide.Options{
-	{}, {Connected: true}, {NoExtend: true}, {Connected: true, NoExtend: true},
+	{AllPools: true}, {}, {AllPools: true, NoExtend: true}, {NoExtend: true},
 }
 
 // TestSweepMatchesAt is the property test of the sweep engine: on many
@@ -272,7 +281,7 @@ func TestSweepVee(t *testing.T) {
 		t.Fatal(err)
 	}
 	stages := []float64{7, 1, 4, 2.5}
-	ws, _ := sweepAll(t, p, stages, subdivide.Options{})
+	ws, _ := sweepAll(t, p, stages, subdivide.Options{AllPools: true})
 	for i, y := range stages {
 		w := ws[i]
 		for _, c := range []struct {
@@ -297,7 +306,7 @@ func TestSweepStops(t *testing.T) {
 	}
 	stop := errors.New("stop")
 	calls := 0
-	err = p.Sweep([]float64{0.1, 0.2, 0.3}, subdivide.Options{}, func(int, subdivide.Wetted, error) error {
+	err = p.Sweep([]float64{0.1, 0.2, 0.3}, subdivide.Options{AllPools: true}, func(int, subdivide.Wetted, error) error {
 		calls++
 		return stop
 	})
@@ -316,7 +325,7 @@ func TestSweepLongValley(t *testing.T) {
 		t.Fatal(err)
 	}
 	stages := stageSteps(p, 2000)
-	for _, opt := range []subdivide.Options{{}, {Connected: true}} {
+	for _, opt := range []subdivide.Options{{AllPools: true}, {}} {
 		checkSweep(t, s, stages, opt)
 	}
 }

@@ -145,7 +145,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 // options (without the section).
 func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	var opt gauged.Options
-	if err := fs.needs("--section SURVEY", f.section != "", "slope", "datum", "channel-only", "compare-only", "sheet", "n", "banks", "connected", "no-extend"); err != nil {
+	if err := fs.needs("--section SURVEY", f.section != "", "slope", "datum", "channel-only", "compare-only", "sheet", "n", "banks", "all-pools", "no-extend"); err != nil {
 		return opt, err
 	}
 	if f.section != "" && !(f.slope > 0) {

@@ -28,7 +28,7 @@ type rateFlags struct {
 	long           bool
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--connected] [--format csv|json|text|xlsx] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
 
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)

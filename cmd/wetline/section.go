@@ -16,7 +16,7 @@ type sectionFlags struct {
 	n         numbers
 	banks     numbers
 	units     string
-	connected bool
+	allPools  bool
 	noExtend  bool
 	shape     string // a built shape spec instead of a survey file
 	composite string // composite roughness method
@@ -27,7 +27,8 @@ func (sf *sectionFlags) register(fs *flagSet) {
 	fs.Var(&sf.n, "n", "Manning's n for the whole section, or LEFT,CHANNEL,RIGHT by region (overrides the survey's n column)")
 	fs.Var(&sf.banks, "banks", "bank stations LEFT,RIGHT bounding the main channel (overrides bank marks)")
 	fs.StringVar(&sf.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
-	fs.BoolVar(&sf.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
+	fs.BoolVar(&sf.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
+	connectedFlag(fs)
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
 	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n), horton, pavlovskii or lotter")
@@ -35,7 +36,7 @@ func (sf *sectionFlags) register(fs *flagSet) {
 
 // geometry returns the wetting options of the flags.
 func (sf *sectionFlags) geometry() subdivide.Options {
-	return subdivide.Options{Connected: sf.connected, NoExtend: sf.noExtend}
+	return subdivide.Options{AllPools: sf.allPools, NoExtend: sf.noExtend}
 }
 
 // unitSystem reads --units.
@@ -131,4 +132,11 @@ func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Optio
 	p.Warnings = append(append(p.Warnings, gs.Warnings...), notes...)
 	p.Geometry = g
 	return nil
+}
+
+// connectedFlag keeps the flag --connected of earlier versions, whose
+// behaviour is now the default, as a hidden flag that changes nothing.
+func connectedFlag(fs *flagSet) {
+	fs.Bool("connected", false, "count only the water connected to the main channel (now the default)")
+	fs.MarkHidden("connected")
 }

@@ -18,7 +18,7 @@ import (
 )
 
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
-	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--connected] [--no-extend] [--format text|json|xlsx] [-o FILE]"
+	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--all-pools] [--no-extend] [--format text|json|xlsx] [-o FILE]"
 
 // slopeAreaFlags are the settings of a slope-area computation.
 type slopeAreaFlags struct {
@@ -28,7 +28,7 @@ type slopeAreaFlags struct {
 	seed               uint64
 	nCV, markSD        float64
 	slope              float64
-	connected          bool
+	allPools           bool
 	noExtend           bool
 	format, output     string
 	plots, site        string
@@ -46,7 +46,8 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none)")
 	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides; 0: none)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
-	fs.BoolVar(&f.connected, "connected", false, "count only the wetted reach holding the main channel, not pockets behind higher ground")
+	fs.BoolVar(&f.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
+	connectedFlag(fs)
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&f.format, "format", "", "output format: text, json or xlsx (a results workbook with the inputs, checks, uncertainty and figures; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
@@ -84,7 +85,7 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 		return opt, err
 	}
 	opt.SlopeArea = reach.SlopeAreaOptions{Units: u, Side: side,
-		Geometry: subdivide.Options{Connected: f.connected, NoExtend: f.noExtend}}
+		Geometry: subdivide.Options{AllPools: f.allPools, NoExtend: f.noExtend}}
 	if !math.IsNaN(f.markSpread) {
 		opt.SlopeArea.MarkSpread = f.markSpread
 	}

@@ -14,7 +14,7 @@ func BenchmarkBackwater(b *testing.B) {
 	secs := naturalReach(b, 50, 200, 250, 0.0008)
 	qs := ladder(5, 400, 500)
 	bd := Boundary{Kind: NormalDepth, Slope: 0.0008}
-	opt := BackwaterOptions{Geometry: subdivide.Options{Connected: true}}
+	opt := BackwaterOptions{Geometry: subdivide.Options{}}
 	for b.Loop() {
 		if _, err := ComputeBackwater(secs, qs, bd, opt); err != nil {
 			b.Fatal(err)
@@ -28,7 +28,7 @@ func BenchmarkBackwaterAt(b *testing.B) {
 	secs := hideAll(naturalReach(b, 50, 200, 250, 0.0008))
 	qs := ladder(5, 400, 10)
 	bd := Boundary{Kind: NormalDepth, Slope: 0.0008}
-	opt := BackwaterOptions{Geometry: subdivide.Options{Connected: true}}
+	opt := BackwaterOptions{Geometry: subdivide.Options{}}
 	for b.Loop() {
 		if _, err := ComputeBackwater(secs, qs, bd, opt); err != nil {
 			b.Fatal(err)

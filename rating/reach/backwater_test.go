@@ -160,7 +160,7 @@ func TestBackwaterEnergyBalance(t *testing.T) {
 	secs := naturalReach(t, 12, 120, 200, 0.001)
 	secs[2].FlowLengths = subdivide.PerRegion{Channel: 200, Left: 260, Right: 230} // a bend: the overbanks are shorter
 	secs[5].FlowLengths = subdivide.PerRegion{Channel: 190, Left: 0, Right: 215}
-	gopt := subdivide.Options{Connected: true}
+	gopt := subdivide.Options{}
 	opt := BackwaterOptions{Geometry: gopt, Expansion: 0.3, Contraction: 0.1}
 	res, err := ComputeBackwater(secs, ladder(2, 600, 25), Boundary{Kind: NormalDepth, Slope: 0.001}, opt)
 	if err != nil {
@@ -261,7 +261,7 @@ func TestBackwaterPathsAgree(t *testing.T) {
 	secs := naturalReach(t, 8, 80, 250, 0.0008)
 	qs := []float64{300, 5, 120, 40, 450, 12}
 	bd := Boundary{Kind: NormalDepth, Slope: 0.0008}
-	opt := BackwaterOptions{Geometry: subdivide.Options{Connected: true}}
+	opt := BackwaterOptions{Geometry: subdivide.Options{}}
 	fast, err := ComputeBackwater(secs, qs, bd, opt)
 	if err != nil {
 		t.Fatal(err)
@@ -490,7 +490,7 @@ func TestBackwaterRefuses(t *testing.T) {
 		{"eddy k", secs, []float64{10}, normal, BackwaterOptions{Expansion: 1.5}, ErrEddyK, ""},
 		{"rating section", secs, []float64{10}, normal, BackwaterOptions{At: "nowhere"}, ErrRatingSection, ""},
 		{"above the ends", prismReach(t, "trapezoid:bottom=6,side=1.5,height=2", subdivide.Uniform(0.035), 3, 200, 0.001),
-			[]float64{10, 500}, normal, BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}}, subdivide.ErrAboveEnds, ""},
+			[]float64{10, 500}, normal, BackwaterOptions{Geometry: subdivide.Options{AllPools: true, NoExtend: true}}, subdivide.ErrAboveEnds, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := ComputeBackwater(tc.secs, tc.qs, tc.bd, tc.opt)
@@ -585,7 +585,7 @@ func TestBackwaterNoExtend(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := ComputeBackwater(secs, []float64{50}, bd, BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}})
+	b, err := ComputeBackwater(secs, []float64{50}, bd, BackwaterOptions{Geometry: subdivide.Options{AllPools: true, NoExtend: true}})
 	if err != nil {
 		t.Fatal(err)
 	}

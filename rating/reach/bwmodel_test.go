@@ -57,7 +57,7 @@ func TestBWModelMatchesAt(t *testing.T) {
 	}
 	rng := rand.New(rand.NewPCG(1, 1))
 	for name, g := range geoms {
-		for _, gopt := range []subdivide.Options{{}, {Connected: true}} {
+		for _, gopt := range []subdivide.Options{{AllPools: true}, {}} {
 			m, err := newBWModel(g, gopt, rating.SI)
 			if err != nil {
 				t.Fatal(err)
@@ -104,7 +104,7 @@ func checkModel(t *testing.T, name string, m *bwModel, g subdivide.Geometry, gop
 		{"conveyance", st.k, row.Conveyance},
 	} {
 		if math.Abs(c.got-c.want) > modelTol*math.Max(math.Abs(c.want), scale) {
-			t.Errorf("%s (connected %v) stage %.12g: %s %.15g, At gives %.15g", name, gopt.Connected, h, c.what, c.got, c.want)
+			t.Errorf("%s (connected %v) stage %.12g: %s %.15g, At gives %.15g", name, !gopt.AllPools, h, c.what, c.got, c.want)
 		}
 	}
 	if row.Area > 0 && math.Abs(st.alpha()-row.Alpha) > modelTol*row.Alpha {
@@ -121,7 +121,7 @@ func TestBWModelDirect(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m, err := newBWModel(hidden{p}, subdivide.Options{}, rating.SI)
+	m, err := newBWModel(hidden{p}, subdivide.Options{AllPools: true}, rating.SI)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -129,6 +129,6 @@ func TestBWModelDirect(t *testing.T) {
 		t.Fatalf("bands %+v", m.bands)
 	}
 	for _, h := range []float64{0.1, 1.5, 3.2, 7} {
-		checkModel(t, "direct", m, p, subdivide.Options{}, h)
+		checkModel(t, "direct", m, p, subdivide.Options{AllPools: true}, h)
 	}
 }

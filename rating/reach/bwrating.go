@@ -67,7 +67,7 @@ func (r BackwaterRating) Table() (rating.Table, error) {
 			unsettled, r.Tolerance, r.Units.Length(), FlagUnsettled))
 	}
 	t.Warnings = append(t.Warnings, rating.ExtensionWarnings(maxL, maxR, maxStage, r.Units)...)
-	if pools > 1 && !r.GeometryOptions.Connected {
+	if pools > 1 && r.GeometryOptions.AllPools {
 		t.Warnings = append(t.Warnings, fmt.Sprintf("at some stages the water stands in %d separate pools; all are counted", pools))
 	}
 	return t, nil

@@ -570,7 +570,7 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 			out = append(out, fmt.Sprintf("section %s: stages up to %.3f %s are above an end of the section: a vertical wall was added there",
 				s.ID, h, u.Length()))
 		}
-		if r.pools[j] > 1 && !r.models[j].gopt.Connected {
+		if r.pools[j] > 1 && r.models[j].gopt.AllPools {
 			out = append(out, fmt.Sprintf("section %s: the water stands in up to %d separate pools; all are counted", s.ID, r.pools[j]))
 		}
 	}

@@ -553,9 +553,8 @@ func saPrepare(secs []Section, opt SlopeAreaOptions, res *SlopeArea) (ws []float
 		for _, w := range rating.ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
 			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
 		}
-		if sts[i].w.Pools > 1 && !opt.Geometry.Connected {
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"section %s: the water stands in %d separate pools; all are counted", s.ID, sts[i].w.Pools))
+		for _, w := range rating.PoolWarnings(sts[i].w.Pools, min(sts[i].w.PondedPools, 1), sts[i].w.Ponded, opt.Geometry, u) {
+			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
 		}
 	}
 	return ws, used, sts, nil

@@ -229,10 +229,10 @@ func TestSlopeAreaSectionMatchesHydraulics(t *testing.T) {
 		t.Fatal(err)
 	}
 	var st saSectionState
-	if err := saState(g, 3.6, nil, subdivide.Options{}, rating.SI, &st); err != nil {
+	if err := saState(g, 3.6, nil, subdivide.Options{AllPools: true}, rating.SI, &st); err != nil {
 		t.Fatal(err)
 	}
-	w, _ := g.At(3.6, subdivide.Options{})
+	w, _ := g.At(3.6, subdivide.Options{AllPools: true})
 	row, err := rating.Hydraulics(w, g.Bottom(), 0.001, rating.SI)
 	if err != nil {
 		t.Fatal(err)

@@ -1,0 +1,71 @@
+package rating
+
+import (
+	"math"
+	"strconv"
+	"strings"
+)
+
+// maxDecimalDigits bounds the decimals a stage step may have for the
+// stages of a range to be written exactly as decimals.
+const maxDecimalDigits = 9
+
+// decimalOf writes v as an integer numerator over 10^p, when v's shortest
+// decimal form has at most maxDecimalDigits decimals and the numerator
+// fits an exact float64 integer.
+func decimalOf(v float64) (num int64, p int, ok bool) {
+	s := strconv.FormatFloat(v, 'f', -1, 64)
+	whole, frac, _ := strings.Cut(s, ".")
+	if len(frac) > maxDecimalDigits {
+		return 0, 0, false
+	}
+	n, err := strconv.ParseInt(whole+frac, 10, 64)
+	if err != nil || math.Abs(float64(n)) > maxExactInteger {
+		return 0, 0, false
+	}
+	return n, len(frac), true
+}
+
+// steppedStages returns the n+1 stages from + i·step, i = 0 … n. When
+// from and step are short decimals each stage is the float64 nearest the
+// exact decimal sum (so 100.3 + 33 × 0.1 is 103.6, as typed, not
+// 103.60000000000001), and written out it carries no float noise.
+func steppedStages(from, step float64, n int) []float64 {
+	out := make([]float64, 0, n+1)
+	a, pa, okA := decimalOf(from)
+	m, pm, okM := decimalOf(step)
+	if okA && okM {
+		p := max(pa, pm)
+		a *= pow10(p - pa)
+		m *= pow10(p - pm)
+		den := float64(pow10(p))
+		if last := a + int64(n)*m; math.Abs(float64(last)) <= maxExactInteger && math.Abs(float64(a)) <= maxExactInteger {
+			for i := 0; i <= n; i++ {
+				out = append(out, float64(a+int64(i)*m)/den)
+			}
+			return out
+		}
+	}
+	for i := 0; i <= n; i++ {
+		out = append(out, from+float64(i)*step)
+	}
+	return out
+}
+
+// pow10 returns 10^p for 0 ≤ p ≤ 18.
+func pow10(p int) int64 {
+	r := int64(1)
+	for range p {
+		r *= 10
+	}
+	return r
+}
+
+// multiple returns k·step as the float64 nearest the exact decimal
+// product when step is a short decimal.
+func multiple(k float64, step float64) float64 {
+	if m, p, ok := decimalOf(step); ok && math.Abs(k*float64(m)) <= maxExactInteger {
+		return k * float64(m) / float64(pow10(p))
+	}
+	return k * step
+}
