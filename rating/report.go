@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"wetline/subdivide"
 )
@@ -16,6 +17,52 @@ type Provenance struct {
 	// Inputs are the files read, as given; a workbook sheet follows its
 	// file in brackets: field.xlsx['XS-2'].
 	Inputs []string
+	// Site is what is known of the site (blank fields unknown).
+	Site Site
+}
+
+// Site is what a survey or a command line says of a site: its name and
+// identifier, the date of the survey, the datum of its elevations and the
+// crew. Every field is free text as given; blank when unknown.
+type Site struct {
+	Name, ID, Surveyed, Datum, Crew string
+}
+
+// Known reports whether anything is known of the site.
+func (s Site) Known() bool { return s != Site{} }
+
+// Merge returns s with its blank fields taken from o.
+func (s Site) Merge(o Site) Site {
+	pick := func(a, b string) string {
+		if a != "" {
+			return a
+		}
+		return b
+	}
+	return Site{Name: pick(s.Name, o.Name), ID: pick(s.ID, o.ID), Surveyed: pick(s.Surveyed, o.Surveyed),
+		Datum: pick(s.Datum, o.Datum), Crew: pick(s.Crew, o.Crew)}
+}
+
+// String writes the site in one line: "Tallow Creek at Mill Lane (id
+// 0412), surveyed 2026-05-14, datum local, crew AB"; "" when unknown.
+func (s Site) String() string {
+	var parts []string
+	head := s.Name
+	if s.ID != "" {
+		if head != "" {
+			head += " "
+		}
+		head += "(id " + s.ID + ")"
+	}
+	if head != "" {
+		parts = append(parts, head)
+	}
+	for _, f := range []struct{ label, v string }{{"surveyed", s.Surveyed}, {"datum", s.Datum}, {"crew", s.Crew}} {
+		if f.v != "" {
+			parts = append(parts, f.label+" "+f.v)
+		}
+	}
+	return strings.Join(parts, ", ")
 }
 
 // Figure is a picture of a report: a PNG image, the file name it is

@@ -28,9 +28,9 @@ func (e *ParseError) Error() string {
 	b.WriteString(e.Position())
 	b.WriteString(": ")
 	if e.Name != "" {
-		b.WriteString(e.Name)
+		b.WriteString(echo(e.Name))
 		if e.Text != "" {
-			fmt.Fprintf(&b, " %q", e.Text)
+			fmt.Fprintf(&b, " %q", echo(e.Text))
 		}
 		b.WriteString(": ")
 	}

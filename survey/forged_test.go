@@ -5,8 +5,6 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
-
-	"wetline/rating"
 )
 
 // Every reader of a workbook file refuses a workbook whose zip directory
@@ -27,7 +25,7 @@ func TestForgedWorkbookRefusedByEveryReader(t *testing.T) {
 			return err
 		},
 		"ReadReach":     func() error { _, err := ReadReach(forged, "", SectionOptions{}); return err },
-		"ReadRatingCSV": func() error { _, err := ReadRatingCSV(forged, "", rating.SI); return err },
+		"ReadRatingCSV": func() error { _, err := ReadRatingCSV(forged, "", UnitChoice{}); return err },
 		"SectionSheets": func() error { _, err := SectionSheets(forged); return err },
 		"Prepare":       func() error { _, err := Prepare(SectionRequest{Path: forged}); return err },
 		"ParseWorkbook": func() error {

@@ -33,6 +33,10 @@ type Gaugings struct {
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Units is what the headers say of the unit system.
+	Units UnitNote
+	// Site is the site metadata read above the table.
+	Site rating.Site
 }
 
 // Causes of gauging errors, for errors.Is.
@@ -80,6 +84,10 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 	if err != nil {
 		return gs, err
 	}
+	if gs.Units, err = t.HeaderUnits(cs, cq); err != nil {
+		return gs, err
+	}
+	gs.Site = t.Site()
 	cqual := t.Column(ColGaugingQuality)
 	cnote := t.Column(ColNote)
 	var errs errorList

@@ -33,8 +33,11 @@ type SectionRequest struct {
 	Banks []float64
 	// Composite is the composite-roughness method applied to the geometry.
 	Composite rating.Composite
-	// Units is the unit system of the survey.
-	Units rating.Units
+	// Units is the unit system asked for; with UnitsGiven false the
+	// survey's headers decide (and Units is the default when they say
+	// nothing), with UnitsGiven true they must agree.
+	Units      rating.Units
+	UnitsGiven bool
 }
 
 // Prepared is a section ready for hydraulics.
@@ -50,6 +53,10 @@ type Prepared struct {
 	Shape subdivide.Shape
 	// Built reports a built shape rather than a survey.
 	Built bool
+	// Units is the unit system of the section (see SectionRequest.Units).
+	Units rating.Units
+	// Site is the survey's site metadata.
+	Site rating.Site
 	// Inputs are the files read, never to be written over.
 	Inputs []string
 	// Warnings are facts about the section a reviewer should see.
@@ -71,7 +78,11 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if err != nil {
 		return nil, err
 	}
-	p := &Prepared{Survey: sv, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
+	u, err := sv.Units.Resolve(req.Units, req.UnitsGiven)
+	if err != nil {
+		return nil, err
+	}
+	p := &Prepared{Survey: sv, Units: u, Site: sv.Site, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
 	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
 	sec := sv.Section
 	if req.Banks != nil {
@@ -178,7 +189,7 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 	if err != nil {
 		return nil, fmt.Errorf("%w: %w", ErrRequest, err)
 	}
-	p := &Prepared{Shape: sh, Built: true, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
+	p := &Prepared{Shape: sh, Built: true, Units: req.Units, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
 	if !sh.Closed() {
 		if sec, err := sh.Section(n); err == nil {
 			p.Ground.Section = sec

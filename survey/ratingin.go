@@ -12,8 +12,9 @@ import (
 
 // ReadRatingCSV reads back a rating table written by WriteRatingCSV, from
 // a CSV file or a workbook sheet (by extension; sheet "" is the first).
-// Values are taken to be in units u (the file does not say).
-func ReadRatingCSV(path, sheet string, u rating.Units) (rating.Table, error) {
+// The unit system is u's, or the headers' when they name units and u was
+// not given (see UnitNote.Resolve).
+func ReadRatingCSV(path, sheet string, u UnitChoice) (rating.Table, error) {
 	t, err := ReadTable(path, sheet)
 	if err != nil {
 		return rating.Table{}, err
@@ -23,7 +24,7 @@ func ReadRatingCSV(path, sheet string, u rating.Units) (rating.Table, error) {
 
 // ParseRatingCSV reads a rating table from CSV text; name is used in
 // messages and as the table's name.
-func ParseRatingCSV(r io.Reader, name string, u rating.Units) (rating.Table, error) {
+func ParseRatingCSV(r io.Reader, name string, u UnitChoice) (rating.Table, error) {
 	t, err := ParseCSV(r, name)
 	if err != nil {
 		return rating.Table{}, err
@@ -37,8 +38,8 @@ func ParseRatingCSV(r io.Reader, name string, u rating.Units) (rating.Table, err
 // (NaN). Per-subsection columns are not read. Bottom is stage − depth
 // where a depth is given, else the lowest stage; Top is the highest
 // stage. Every bad cell is reported, each naming its row and column.
-func RatingFromTable(t *Table, u rating.Units) (rating.Table, error) {
-	out := rating.Table{Name: sectionName(t), Units: u, Slope: math.NaN()}
+func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
+	out := rating.Table{Name: sectionName(t), Units: choice.Units, Slope: math.NaN()}
 	out.Name = strings.TrimSuffix(out.Name, "-rating")
 	cs, err := t.Require("stage")
 	if err != nil {
@@ -46,6 +47,13 @@ func RatingFromTable(t *Table, u rating.Units) (rating.Table, error) {
 	}
 	cq, err := t.Require("discharge")
 	if err != nil {
+		return out, err
+	}
+	note, err := t.HeaderUnits(cs, cq, t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+	if err != nil {
+		return out, err
+	}
+	if out.Units, err = note.Resolve(choice.Units, choice.Given); err != nil {
 		return out, err
 	}
 	nan := math.NaN()

@@ -74,6 +74,10 @@ type Reach struct {
 	Surveys []Survey
 	// Warnings are unusual but legal facts about the reach and its surveys.
 	Warnings []string
+	// Units is what the headers say of the unit system.
+	Units UnitNote
+	// Site is the site metadata read above the table.
+	Site rating.Site
 
 	t    *Table
 	cols map[string]int
@@ -140,6 +144,11 @@ func ReachFromTable(t *Table) (*Reach, error) {
 		}
 		r.cols[name] = c
 	}
+	var err error
+	if r.Units, err = t.HeaderUnits(r.cols[ReachColDistance], r.cols[ReachColWSLeft], r.cols[ReachColWSRight]); err != nil {
+		return nil, err
+	}
+	r.Site = t.Site()
 	r.cols[ReachColQuality] = t.Column(ReachColQuality)
 	r.cols[ColNote] = t.Column(ColNote)
 	for i, h := range t.Header {
@@ -241,7 +250,8 @@ func (r *Reach) Inputs() []string {
 	return out
 }
 
-// ReachSections compiles each section's survey for the slope-area method,
+// ReachSections compiles each section's survey for the slope-area method
+// in unit system u (a survey whose headers say otherwise is an error),
 // with its id, distance and marks, and the standard deviation of its marks
 // from their quality rating (rating.Quality.MarkSD; zero, the default, when
 // blank). Geometry errors name the survey file.
@@ -252,6 +262,9 @@ func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 	out := make([]reach.Section, len(r.Rows))
 	for i, row := range r.Rows {
 		sv := r.Surveys[i]
+		if _, err := sv.Units.Resolve(u, true); err != nil {
+			return nil, err
+		}
 		if sv.Section.N == nil {
 			return nil, &ParseError{File: sv.File, Sheet: sv.Sheet, Err: ErrNoNColumn}
 		}

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strings"
 	"time"
 
@@ -66,16 +65,12 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 	if opt.Sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
 	}
-	f, err := os.Open(path)
+	f, n, err := openInput(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	size := 0
-	if st, err := f.Stat(); err == nil {
-		size = int(st.Size() / recordBytesPerRow)
-	}
-	return parseStageCSV(f, path, opt, size)
+	return parseStageCSV(f, path, opt, int(max(n, 0)/recordBytesPerRow))
 }
 
 // ParseStageRecord reads a stage record from CSV text, row by row into
@@ -126,12 +121,9 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 
 // readStageWorkbook streams a stage record from a workbook sheet.
 func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error) {
-	if err := checkWorkbookFile(path); err != nil {
-		return nil, &ParseError{File: path, Err: err}
-	}
-	f, err := excelize.OpenFile(path, excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes})
+	f, err := openWorkbook(path)
 	if err != nil {
-		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+		return nil, err
 	}
 	defer f.Close()
 	sheet := opt.Sheet

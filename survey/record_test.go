@@ -14,6 +14,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/rating/record"
+	"wetline/subdivide"
 )
 
 func utcUnix(y int, m time.Month, d, hh, mm, ss int) int64 {
@@ -69,7 +70,7 @@ func TestParseStageRecordErrors(t *testing.T) {
 		{"unsorted after a comment", head + "2024-05-01T00:30,1\n# moved\n\n2024-05-01T00:15,1\n", []string{"s.csv:5:1", "row 2"}, ErrTimeOrder},
 		{"decimal comma", head + "2024-05-01T00:30,\"1,5\"\n", []string{"s.csv:2:2", `stage "1,5"`}, ErrDecimalComma},
 		{"not a number", head + "2024-05-01T00:30,abc\n", []string{"s.csv:2:2"}, ErrNotNumber},
-		{"infinite", head + "2024-05-01T00:30,1e999\n", []string{"s.csv:2:2"}, ErrNotNumber},
+		{"infinite", head + "2024-05-01T00:30,1e999\n", []string{"s.csv:2:2"}, subdivide.ErrNotFinite},
 		{"blank time", head + ",1\n", []string{"s.csv:2:1", "blank"}, ErrBlankTime},
 		{"sub-second", head + "2024-05-01T00:30:00.5Z,1\n", []string{"s.csv:2:1"}, ErrSubSecond},
 		{"serial in CSV", head + "45000.5,1\n", []string{"s.csv:2:1"}, ErrSerialInCSV},

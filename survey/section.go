@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -25,6 +26,10 @@ type Survey struct {
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Units is what the headers say of the unit system.
+	Units UnitNote
+	// Site is the site metadata read above the table.
+	Site rating.Site
 }
 
 // SectionOptions adjust how a survey is read. The zero value reads marks.
@@ -84,6 +89,10 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if err != nil {
 		return sv, err
 	}
+	if sv.Units, err = t.HeaderUnits(cs, ce); err != nil {
+		return sv, err
+	}
+	sv.Site = t.Site()
 	cn := t.Column(ColN, "manning_n", "mannings_n")
 	cm := t.Column(ColMark)
 	cnote := t.Column(ColNote)

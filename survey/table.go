@@ -1,14 +1,12 @@
 package survey
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"regexp"
 	"strconv"
@@ -22,17 +20,24 @@ import (
 // a header row and the non-blank data rows below it, with their positions.
 type Table struct {
 	File, Sheet string
-	// Header holds the column names as written (trimmed).
+	// Header holds the column names as written (trimmed), up to the last
+	// named column.
 	Header []string
 	// HeaderRow is the 1-based line or row of the header.
 	HeaderRow int
-	// Records are the non-blank data rows, each padded to the header width.
+	// Records are the non-blank data rows. A row holds at most as many
+	// cells as the header; trailing blank cells may be missing (Cell
+	// reads them as blank).
 	Records []Record
 	// Date1904 is the workbook's date system (false for CSV).
 	Date1904 bool
 	// Sheets lists every sheet of the workbook the table was read from
 	// (nil for CSV).
 	Sheets []string
+	// Meta holds the key lines above the table: "# key: value" comment
+	// lines of a CSV file, or two-cell rows above a sheet's header, keyed
+	// by the lower-case key (see MetaKeys).
+	Meta map[string]string
 }
 
 // Record is one data row and its 1-based line (CSV) or row (sheet).
@@ -54,7 +59,11 @@ func IsWorkbook(path string) bool {
 const MaxWorkbookBytes = 1 << 30
 
 // ReadTable reads a table from a CSV file, or from a sheet of a workbook
-// (by extension; sheet "" is the first sheet).
+// (by extension; sheet "" is the first sheet). "-" reads standard input,
+// a workbook or CSV text as its first bytes say. Only regular files of at
+// most the limits (see Limits) are read; text that is not a UTF-8 table
+// (UTF-16, binary, a workbook named .csv, tab-separated) is refused
+// saying what it is.
 func ReadTable(path, sheet string) (*Table, error) {
 	return readTable(path, sheet, "")
 }
@@ -68,23 +77,40 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 			return nil, err
 		}
 		defer f.Close()
-		if sheet == "" && prefer != "" {
-			for _, s := range f.GetSheetList() {
-				if strings.EqualFold(s, prefer) {
-					sheet = s
-				}
-			}
+		return sheetTable(f, path, preferSheet(f, sheet, prefer))
+	}
+	data, err := readInput(path)
+	if err != nil {
+		return nil, err
+	}
+	if path == Stdin && bytes.HasPrefix(data, zipMagic) {
+		f, err := openWorkbookBytes(data, path)
+		if err != nil {
+			return nil, err
 		}
-		return sheetTable(f, path, sheet)
+		defer f.Close()
+		return sheetTable(f, path, preferSheet(f, sheet, prefer))
 	}
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
 	}
-	data, err := os.ReadFile(path)
-	if err != nil {
+	if err := sniffText(data, path); err != nil {
 		return nil, err
 	}
 	return ParseCSV(bytes.NewReader(data), path)
+}
+
+// preferSheet returns sheet, or when it is "" the sheet named prefer
+// (any case) if the workbook has one.
+func preferSheet(f *excelize.File, sheet, prefer string) string {
+	if sheet == "" && prefer != "" {
+		for _, s := range f.GetSheetList() {
+			if strings.EqualFold(s, prefer) {
+				return s
+			}
+		}
+	}
+	return sheet
 }
 
 // workbookOptions are the options every workbook is opened with: cells
@@ -92,33 +118,106 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWorkbookBytes}
 
 // openWorkbook opens a workbook file for reading. Every reader of a
-// workbook file opens it here, so the zip directory is always checked
-// first (CheckWorkbookZip).
+// workbook file opens it here, so the file is always a regular file
+// within the limits and its zip directory and sheets are checked first
+// (CheckWorkbookZip).
 func openWorkbook(path string) (*excelize.File, error) {
-	if err := checkWorkbookFile(path); err != nil {
-		return nil, &ParseError{File: path, Err: err}
-	}
-	f, err := excelize.OpenFile(path, workbookOptions)
+	data, err := readInput(path)
 	if err != nil {
-		return nil, &ParseError{File: path, Err: fmt.Errorf("cannot open workbook: %w", err)}
+		return nil, err
+	}
+	return openWorkbookBytes(data, path)
+}
+
+// openWorkbookBytes opens a workbook held in memory; name is used in
+// messages.
+func openWorkbookBytes(data []byte, name string) (*excelize.File, error) {
+	if err := CheckWorkbookZip(bytes.NewReader(data), int64(len(data))); err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	f, err := excelize.OpenReader(bytes.NewReader(data), workbookOptions)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
 	return f, nil
 }
 
-// ParseCSV reads a comma-separated table. Lines starting with '#' are
-// comments, a byte-order mark is dropped, blank lines are skipped and
-// ragged rows are padded to the header.
-func ParseCSV(r io.Reader, name string) (*Table, error) {
-	br := bufio.NewReader(r)
-	if bom, err := br.Peek(3); err == nil && string(bom) == "\ufeff" {
-		br.Discard(3)
+// ErrDuplicateColumn is the cause of a header naming a column twice.
+var ErrDuplicateColumn = errors.New("the header names this column twice")
+
+// tableBuilder collects the header and rows of a table within the limits.
+type tableBuilder struct {
+	t     *Table
+	lim   Limits
+	cells int
+}
+
+func newTableBuilder(file, sheet string) *tableBuilder {
+	return &tableBuilder{t: &Table{File: file, Sheet: sheet}, lim: limits()}
+}
+
+// header sets the header row: trailing blank names are dropped, and a
+// name given twice is an error at its second cell.
+func (b *tableBuilder) header(rec []string, row int) error {
+	h := trimAll(rec)
+	for len(h) > 0 && h[len(h)-1] == "" {
+		h = h[:len(h)-1]
 	}
-	cr := csv.NewReader(br)
+	b.t.Header, b.t.HeaderRow = h, row
+	seen := map[string]int{}
+	for i, name := range h {
+		if name == "" {
+			continue
+		}
+		if j, dup := seen[normName(name)]; dup {
+			return &ParseError{File: b.t.File, Sheet: b.t.Sheet, Row: row, Column: i + 1, Name: name,
+				Err: fmt.Errorf("%w (also column %d)", ErrDuplicateColumn, j+1)}
+		}
+		seen[normName(name)] = i
+	}
+	return nil
+}
+
+// row adds a data row, keeping only the cells under the header.
+func (b *tableBuilder) row(rec []string, row int) error {
+	if len(rec) > len(b.t.Header) {
+		rec = rec[:len(b.t.Header)]
+	}
+	cells := trimAll(rec)
+	for len(cells) > 0 && cells[len(cells)-1] == "" {
+		cells = cells[:len(cells)-1]
+	}
+	b.cells += len(b.t.Header)
+	pos := &ParseError{File: b.t.File, Sheet: b.t.Sheet, Row: row}
+	switch {
+	case len(b.t.Records) >= b.lim.Rows:
+		pos.Err = fmt.Errorf("the table %w of %d rows: raise it with %s=ROWS", ErrTooManyRows, b.lim.Rows, EnvMaxRows)
+		return pos
+	case b.cells > b.lim.Cells:
+		pos.Err = fmt.Errorf("the table %w of %d cells (%d columns): raise it with %s=CELLS", ErrTooManyCells, b.lim.Cells, len(b.t.Header), EnvMaxCells)
+		return pos
+	}
+	b.t.Records = append(b.t.Records, Record{Row: row, Cells: cells})
+	return nil
+}
+
+// ParseCSV reads a comma-separated table. Lines starting with '#' are
+// comments ("# key: value" lines above the header are kept in Meta), a
+// byte-order mark is dropped, blank lines are skipped, and a row keeps only
+// the cells under the header. A table beyond the limits (see Limits) is an
+// error that says the limit.
+func ParseCSV(r io.Reader, name string) (*Table, error) {
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &ParseError{File: name, Err: err}
+	}
+	data = bytes.TrimPrefix(data, []byte("\ufeff"))
+	b := newTableBuilder(name, "")
+	b.t.Meta = csvMeta(data)
+	cr := csv.NewReader(bytes.NewReader(data))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
-	cr.ReuseRecord = false
-	t := &Table{File: name}
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
@@ -132,30 +231,36 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 			return nil, &ParseError{File: name, Err: err}
 		}
 		line, _ := cr.FieldPos(0)
-		if t.Header == nil {
-			if blank(rec) {
-				continue
-			}
-			t.Header = trimAll(rec)
-			t.HeaderRow = line
-			if len(rec) == 1 && strings.Contains(rec[0], ";") {
-				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
-			}
-			continue
-		}
 		if blank(rec) {
 			continue
 		}
-		t.Records = append(t.Records, Record{Row: line, Cells: pad(trimAll(rec), len(t.Header))})
+		if b.t.Header == nil {
+			if len(rec) == 1 && strings.Contains(rec[0], ";") {
+				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
+			}
+			if err := b.header(rec, line); err != nil {
+				return nil, err
+			}
+			continue
+		}
+		if err := b.row(rec, line); err != nil {
+			return nil, err
+		}
 	}
-	if t.Header == nil {
+	if b.t.Header == nil {
 		return nil, &ParseError{File: name, Err: errors.New("empty file: no header row")}
 	}
-	return t, nil
+	return b.t, nil
 }
 
+// ErrHiddenSheet is the cause of a workbook whose first sheet, read when
+// no sheet is named, is hidden.
+var ErrHiddenSheet = errors.New("the first sheet is hidden: name the sheet to read")
+
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
-// the first). Cells are read raw: numbers as written, dates as serials.
+// the first, which must be visible). Cells are read raw: numbers as
+// written, dates as serials. Two-cell rows above the header whose first
+// cell is one of MetaKeys are kept in Meta.
 func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	if sheet == "" {
@@ -163,12 +268,16 @@ func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 			return nil, &ParseError{File: path, Err: errors.New("workbook has no sheets")}
 		}
 		sheet = sheets[0]
+		if visible, err := f.GetSheetVisible(sheet); err == nil && !visible {
+			return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("%w (sheets: %s)", ErrHiddenSheet, strings.Join(sheets, ", "))}
+		}
 	} else if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
 	}
-	t := &Table{File: path, Sheet: sheet, Sheets: sheets}
+	b := newTableBuilder(path, sheet)
+	b.t.Sheets = sheets
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
-		t.Date1904 = *props.Date1904
+		b.t.Date1904 = *props.Date1904
 	}
 	rows, err := f.Rows(sheet)
 	if err != nil {
@@ -185,20 +294,30 @@ func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 		if blank(rec) {
 			continue
 		}
-		if t.Header == nil {
-			t.Header = trimAll(rec)
-			t.HeaderRow = n
+		if b.t.Header == nil {
+			if k, v, ok := metaRow(rec); ok {
+				if b.t.Meta == nil {
+					b.t.Meta = map[string]string{}
+				}
+				b.t.Meta[k] = v
+				continue
+			}
+			if err := b.header(rec, n); err != nil {
+				return nil, err
+			}
 			continue
 		}
-		t.Records = append(t.Records, Record{Row: n, Cells: pad(trimAll(rec), len(t.Header))})
+		if err := b.row(rec, n); err != nil {
+			return nil, err
+		}
 	}
 	if err := rows.Error(); err != nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
 	}
-	if t.Header == nil {
+	if b.t.Header == nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: errors.New("empty sheet: no header row")}
 	}
-	return t, nil
+	return b.t, nil
 }
 
 func blank(rec []string) bool {
@@ -216,13 +335,6 @@ func trimAll(rec []string) []string {
 		out[i] = strings.TrimSpace(c)
 	}
 	return out
-}
-
-func pad(rec []string, n int) []string {
-	for len(rec) < n {
-		rec = append(rec, "")
-	}
-	return rec
 }
 
 // Column returns the index of the first header matching any of names
@@ -300,14 +412,63 @@ func ParseNumber(s string) (float64, error) {
 	if decimalComma.MatchString(s) {
 		return 0, ErrDecimalComma
 	}
+	switch strings.ToLower(strings.TrimLeft(s, "+-")) {
+	case "nan", "inf", "infinity":
+		return 0, subdivide.ErrNotFinite
+	}
+	if !decimalNumber(s) {
+		return 0, ErrNotNumber
+	}
 	v, err := strconv.ParseFloat(s, 64)
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return 0, subdivide.ErrNotFinite // too large for a number
+	}
 	if err != nil {
 		return 0, ErrNotNumber
 	}
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return 0, subdivide.ErrNotFinite
-	}
 	return v, nil
+}
+
+// decimalNumber reports whether s is a number in decimal notation: an
+// optional sign, digits with at most one decimal point, and an optional
+// exponent (1.5, -.25, 3e-4). Hexadecimal floats, digit separators and
+// the like, which strconv also reads, are refused: a field crew never
+// means them.
+func decimalNumber(s string) bool {
+	i := 0
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	digits, point := 0, false
+mantissa:
+	for ; i < len(s); i++ {
+		switch c := s[i]; {
+		case c >= '0' && c <= '9':
+			digits++
+		case c == '.' && !point:
+			point = true
+		default:
+			break mantissa
+		}
+	}
+	if digits == 0 {
+		return false
+	}
+	if i == len(s) {
+		return true
+	}
+	if s[i] != 'e' && s[i] != 'E' {
+		return false
+	}
+	i++
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	start := i
+	for i < len(s) && s[i] >= '0' && s[i] <= '9' {
+		i++
+	}
+	return i > start && i == len(s)
 }
 
 // SectionSheets lists the sheets of a workbook that hold a survey: those

@@ -107,14 +107,23 @@ func runFit(ctx context.Context, e *env, args []string) error {
 // computes the gaugings report.
 func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, error) {
 	inputs := []string{path}
-	var warnings []string
-	units, err := f.unitSystem()
+	choice, err := f.unitSystem()
+	if err != nil {
+		return nil, err
+	}
+	gs, err := survey.ReadGaugings(path, f.gaugingSheet)
+	if err != nil {
+		return nil, err
+	}
+	units, err := gs.Units.Resolve(choice.Units, choice.Given)
 	if err != nil {
 		return nil, err
 	}
 	opt.Units = units
+	warnings := append([]string(nil), gs.Warnings...)
+	site := gs.Site
 	if f.section != "" {
-		p, err := f.prepare(f.section)
+		p, err := f.prepareIn(f.section, units)
 		if err != nil {
 			return nil, err
 		}
@@ -123,12 +132,8 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum,
 			Options: rating.Options{Slope: f.slope, Units: units, Geometry: f.geometry()}}
 		opt.Site = p.Survey.Section.Name
+		site = site.Merge(p.Site)
 	}
-	gs, err := survey.ReadGaugings(path, f.gaugingSheet)
-	if err != nil {
-		return nil, err
-	}
-	warnings = append(warnings, gs.Warnings...)
 	if opt.Site == "" {
 		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	}
@@ -137,7 +142,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	rep.Warnings = append(warnings, rep.Warnings...)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: site}
 	return rep, nil
 }
 

@@ -48,7 +48,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	in := plotting.RatingFigures{Site: *site, Base: t.Name, Table: t, ZeroFlow: *zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if *section != "" {
-		p, err := sf.prepare(*section)
+		p, err := sf.prepareIn(*section, t.Units)
 		if err != nil {
 			return err
 		}

@@ -133,8 +133,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rating.RatingReport{}, err
 	}
-	u, _ := f.unitSystem()
-	opt := rating.Options{Slope: f.slope, Units: u, Geometry: f.geometry()}
+	opt := rating.Options{Slope: f.slope, Units: p.Units, Geometry: f.geometry()}
 	if err := f.calib.apply(fs, p, opt); err != nil {
 		return rating.RatingReport{}, err
 	}
@@ -146,7 +145,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rep, failed(p, err)
 	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
 	rep.Ground = p.Ground
 	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
 	return rep, nil

@@ -20,13 +20,15 @@ type sectionFlags struct {
 	noExtend  bool
 	shape     string // a built shape spec instead of a survey file
 	composite string // composite roughness method
+	fs        *flagSet
 }
 
 func (sf *sectionFlags) register(fs *flagSet) {
+	sf.fs = fs
 	fs.StringVar(&sf.sheet, "sheet", "", "workbook sheet holding the survey (default: the first sheet)")
 	fs.Var(&sf.n, "n", "Manning's n for the whole section, or LEFT,CHANNEL,RIGHT by region (overrides the survey's n column)")
 	fs.Var(&sf.banks, "banks", "bank stations LEFT,RIGHT bounding the main channel (overrides bank marks)")
-	fs.StringVar(&sf.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
+	fs.StringVar(&sf.units, "units", "si", unitsUsage)
 	fs.BoolVar(&sf.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
 	connectedFlag(fs)
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
@@ -39,13 +41,21 @@ func (sf *sectionFlags) geometry() subdivide.Options {
 	return subdivide.Options{AllPools: sf.allPools, NoExtend: sf.noExtend}
 }
 
-// unitSystem reads --units.
-func (sf *sectionFlags) unitSystem() (rating.Units, error) {
-	u, err := rating.ParseUnits(sf.units)
+// unitsUsage is the help of --units.
+const unitsUsage = "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s); default: the units written in the input's headers, else si"
+
+// unitSystem reads --units, and whether it was given.
+func (sf *sectionFlags) unitSystem() (survey.UnitChoice, error) {
+	return unitChoice(sf.units, sf.fs != nil && sf.fs.Changed("units"))
+}
+
+// unitChoice reads a --units value.
+func unitChoice(text string, given bool) (survey.UnitChoice, error) {
+	u, err := rating.ParseUnits(text)
 	if err != nil {
-		return u, usageError{err}
+		return survey.UnitChoice{}, usageError{err}
 	}
-	return u, nil
+	return survey.UnitChoice{Units: u, Given: given}, nil
 }
 
 // request turns the flags into a section request for the survey at path
@@ -59,7 +69,7 @@ func (sf *sectionFlags) request(path string) (survey.SectionRequest, error) {
 	if err != nil {
 		return survey.SectionRequest{}, usageError{err}
 	}
-	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u}
+	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u.Units, UnitsGiven: u.Given}
 	if len(sf.n) > 0 {
 		req.N = sf.n
 	}
@@ -76,6 +86,21 @@ func (sf *sectionFlags) prepare(path string) (*survey.Prepared, error) {
 	if err != nil {
 		return nil, err
 	}
+	p, err := survey.Prepare(req)
+	if errors.Is(err, survey.ErrRequest) {
+		return nil, usageError{err}
+	}
+	return p, err
+}
+
+// prepareIn is prepare for a section that must be in unit system u (that
+// of another input read first).
+func (sf *sectionFlags) prepareIn(path string, u rating.Units) (*survey.Prepared, error) {
+	req, err := sf.request(path)
+	if err != nil {
+		return nil, err
+	}
+	req.Units, req.UnitsGiven = u, true
 	p, err := survey.Prepare(req)
 	if errors.Is(err, survey.ErrRequest) {
 		return nil, usageError{err}

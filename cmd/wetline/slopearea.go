@@ -38,7 +38,7 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the sections overlaid (PNG) into this folder")
 	fs.StringVar(&f.site, "site", "", "site name for the figure titles")
-	fs.StringVar(&f.units, "units", "si", "unit system of all input and output: si (m, m3/s) or us (ft, ft3/s)")
+	fs.StringVar(&f.units, "units", "si", unitsUsage)
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
 	fs.IntVar(&f.draws, "draws", reach.DefaultDraws, "Monte Carlo draws for the uncertainty band (0: none)")
@@ -125,7 +125,7 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	path := fs.Arg(0)
-	rep, err := estimate(path, f.sheet, opt)
+	rep, err := estimate(path, f.sheet, opt, fs.Changed("units"))
 	if err != nil {
 		return err
 	}
@@ -151,9 +151,12 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 }
 
 // estimate reads a reach table and its surveys and estimates the peak.
-func estimate(path, sheet string, opt reach.EstimateOptions) (reach.Report, error) {
+func estimate(path, sheet string, opt reach.EstimateOptions, unitsGiven bool) (reach.Report, error) {
 	rt, err := survey.ReadReach(path, sheet, survey.SectionOptions{})
 	if err != nil {
+		return reach.Report{}, err
+	}
+	if opt.SlopeArea.Units, err = rt.Units.Resolve(opt.SlopeArea.Units, unitsGiven); err != nil {
 		return reach.Report{}, err
 	}
 	secs, err := rt.ReachSections(opt.SlopeArea.Units)
@@ -168,7 +171,7 @@ func estimate(path, sheet string, opt reach.EstimateOptions) (reach.Report, erro
 		return rep, rt.PlaceError(err)
 	}
 	rep.Name = survey.Position(path, sheet)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: rt.Inputs()}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: rt.Inputs(), Site: rt.Site}
 	rep.Warnings = append(append([]string(nil), rt.Warnings...), rep.Warnings...)
 	return rep, nil
 }

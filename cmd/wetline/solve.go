@@ -53,14 +53,13 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	u, _ := sf.unitSystem()
 	c, _ := rating.ParseComposite(sf.composite)
-	rep, err := rating.Answer(p.Geometry, q, rating.Options{Slope: slope, Units: u, Geometry: sf.geometry(), Composite: c})
+	rep, err := rating.Answer(p.Geometry, q, rating.Options{Slope: slope, Units: p.Units, Geometry: sf.geometry(), Composite: c})
 	if err != nil {
 		return failed(p, err)
 	}
 	rep.Section = p.Source()
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
 	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
 	write := results.WriteSolveText
 	if format == "json" {

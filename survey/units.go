@@ -1,0 +1,108 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"wetline/rating"
+)
+
+// Causes of units in headers that cannot be used, for errors.Is.
+var (
+	// ErrUnknownUnit: a header names a unit wetline does not know.
+	ErrUnknownUnit = errors.New("unknown unit: write m or ft (m3/s or ft3/s for a discharge)")
+	// ErrMixedUnits: two headers name units of different systems.
+	ErrMixedUnits = errors.New("columns are in different unit systems")
+	// ErrUnitsDisagree: the headers' unit system is not the one asked for.
+	ErrUnitsDisagree = errors.New("the header's unit is not the unit system asked for")
+)
+
+// unitWords maps the units a header may name, lower case without spaces,
+// to their unit system.
+var unitWords = map[string]rating.Units{
+	"m": rating.SI, "metre": rating.SI, "metres": rating.SI, "meter": rating.SI, "meters": rating.SI,
+	"m2": rating.SI, "m²": rating.SI, "m^2": rating.SI, "sqm": rating.SI,
+	"m3/s": rating.SI, "m³/s": rating.SI, "m^3/s": rating.SI, "cms": rating.SI, "cumecs": rating.SI,
+	"m/s": rating.SI, "m/m": rating.SI, "pa": rating.SI,
+	"ft": rating.US, "feet": rating.US, "foot": rating.US, "ft.": rating.US,
+	"ft2": rating.US, "ft²": rating.US, "ft^2": rating.US, "sqft": rating.US,
+	"ft3/s": rating.US, "ft³/s": rating.US, "ft^3/s": rating.US, "cfs": rating.US,
+	"ft/s": rating.US, "ft/ft": rating.US, "lb/ft2": rating.US,
+}
+
+// headerUnit returns the unit written in brackets after a column name
+// ("stage (m)", "discharge [cfs]"), lower case without spaces; "" when
+// none is written.
+func headerUnit(h string) string {
+	i := strings.IndexAny(h, "([")
+	if i < 0 {
+		return ""
+	}
+	u := strings.TrimRight(strings.TrimSpace(h[i+1:]), ")]")
+	return strings.ToLower(strings.Join(strings.Fields(u), ""))
+}
+
+// UnitNote is what a table's headers say of its unit system.
+type UnitNote struct {
+	// Found reports that a header names a unit; Units is its system.
+	Found bool
+	Units rating.Units
+	// At is the first column naming a unit (position only), and Text the
+	// unit as written there.
+	At   *ParseError
+	Text string
+}
+
+// HeaderUnits reads the units written in the headers of columns cols
+// (indices; negative ones are absent columns and skipped). An unknown
+// unit, or units of two systems, is an error naming the column.
+func (t *Table) HeaderUnits(cols ...int) (UnitNote, error) {
+	var n UnitNote
+	for _, c := range cols {
+		if c < 0 || c >= len(t.Header) {
+			continue
+		}
+		text := headerUnit(t.Header[c])
+		if text == "" {
+			continue
+		}
+		at := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: t.Header[c]}
+		u, ok := unitWords[text]
+		if !ok {
+			at.Err = fmt.Errorf("%w (%q)", ErrUnknownUnit, echo(text))
+			return n, at
+		}
+		if n.Found && u != n.Units {
+			at.Err = fmt.Errorf("%w: %s here, %s in %s", ErrMixedUnits, text, n.Text, n.At.Name)
+			return n, at
+		}
+		if !n.Found {
+			n = UnitNote{Found: true, Units: u, At: at, Text: text}
+		}
+	}
+	return n, nil
+}
+
+// Resolve returns the unit system to use for data whose headers say n:
+// the one asked for when given, which the headers must not contradict
+// (ErrUnitsDisagree, naming the column and both units), else the headers'
+// when they name one, else u.
+func (n UnitNote) Resolve(u rating.Units, given bool) (rating.Units, error) {
+	switch {
+	case !n.Found:
+		return u, nil
+	case given && n.Units != u:
+		at := *n.At
+		at.Err = fmt.Errorf("%w: the header says %s (%s units) but %s units were asked for", ErrUnitsDisagree, n.Text, n.Units, u)
+		return u, &at
+	}
+	return n.Units, nil
+}
+
+// UnitChoice is the unit system asked for, and whether it was asked for
+// explicitly (else the headers decide).
+type UnitChoice struct {
+	Units rating.Units
+	Given bool
+}
