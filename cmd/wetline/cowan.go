@@ -39,11 +39,11 @@ func runCowan(ctx context.Context, e *env, args []string) error {
 	}
 	var err error
 	if in.Column, err = rating.ParseBaseColumn(column); err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	res, err := rating.Cowan(in)
 	if errors.Is(err, rating.ErrCowanChoice) {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	if err != nil {
 		return err

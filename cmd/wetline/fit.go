@@ -74,7 +74,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
+	if format == "xlsx" && f.output == "" {
 		return usagef("fit: an xlsx workbook needs -o FILE.xlsx")
 	}
 	opt.Lookup = format == "xlsx"

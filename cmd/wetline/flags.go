@@ -37,7 +37,7 @@ func (fs *flagSet) parse(e *env, args []string) error {
 		if errors.Is(err, pflag.ErrHelp) {
 			return fs.help(e.stdout)
 		}
-		return usageError{fmt.Errorf("%s: %w", fs.Name(), err)}
+		return usageError{err: fmt.Errorf("%s: %w", fs.Name(), err)}
 	}
 	if h, _ := fs.GetBool("help"); h {
 		return fs.help(e.stdout)

@@ -66,13 +66,17 @@ func newEnv(stdout, stderr io.Writer, cmds map[string]command) *env {
 		progressDelay: time.Second, progressEvery: 200 * time.Millisecond}
 }
 
-// usageError marks an error in the command line (exit status 2).
-type usageError struct{ err error }
+// usageError marks an error in the command line (exit status 2); cmd
+// names the command whose help to point at ("" for the program's).
+type usageError struct {
+	err error
+	cmd string
+}
 
 func (e usageError) Error() string { return e.err.Error() }
 func (e usageError) Unwrap() error { return e.err }
 
-func usagef(format string, a ...any) error { return usageError{fmt.Errorf(format, a...)} }
+func usagef(format string, a ...any) error { return usageError{err: fmt.Errorf(format, a...)} }
 
 // errHelp ends a run after help was printed (exit status 0).
 var errHelp = errors.New("help shown")
@@ -138,7 +142,11 @@ func exitStatus(err error, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "wetline: "+line)
 	}
 	if errors.As(err, &ue) {
-		fmt.Fprintln(stderr, "run 'wetline help' for usage")
+		if ue.cmd != "" {
+			fmt.Fprintf(stderr, "run 'wetline %s --help' for its usage\n", ue.cmd)
+		} else {
+			fmt.Fprintln(stderr, "run 'wetline help' for usage")
+		}
 		return 2
 	}
 	return 1
@@ -154,10 +162,19 @@ func run(ctx context.Context, e *env, args []string) error {
 	name := args[0]
 	switch name {
 	case "help", "-h", "--help":
+		if len(args) > 1 {
+			c, ok := e.commands[args[1]]
+			if !ok {
+				return usagef("help: unknown command %q", args[1])
+			}
+			return c.run(ctx, e, []string{"--help"})
+		}
 		return printUsage(e.stdout, e.commands)
 	case "version", "--version":
 		_, err := fmt.Fprintln(e.stdout, program())
 		return err
+	case "completion":
+		return runCompletion(ctx, e, args[1:])
 	}
 	c, ok := e.commands[name]
 	if !ok {
@@ -166,6 +183,10 @@ func run(ctx context.Context, e *env, args []string) error {
 	err := c.run(ctx, e, args[1:])
 	if err != nil {
 		e.files.Discard() // a failed run leaves no output
+		var ue usageError
+		if errors.As(err, &ue) && ue.cmd == "" {
+			err = usageError{err: err, cmd: name}
+		}
 	}
 	return err
 }
@@ -183,7 +204,13 @@ func printUsage(w io.Writer, cmds map[string]command) error {
 	for _, n := range names {
 		fmt.Fprintf(&b, "  %-10s %s\n", n, cmds[n].summary)
 	}
-	b.WriteString("\nRun 'wetline COMMAND --help' for a command's flags.\n")
+	b.WriteString("  help       show this list, or 'wetline help COMMAND' a command's flags\n")
+	b.WriteString("  version    print the program's version (also --version)\n")
+	b.WriteString("  completion print a shell completion script: 'wetline completion bash' or 'zsh'\n")
+	b.WriteString("\nRun 'wetline COMMAND --help' for a command's flags. An input file named - is\n")
+	b.WriteString("standard input; -o - writes to standard output.\n")
+	b.WriteString("\nExit status: 0 success, 1 input data or a file could not be used (nothing is\n")
+	b.WriteString("written), 2 a mistake on the command line, 128+N interrupted by signal N.\n")
 	b.WriteString("\nCaution: " + rating.Caution + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err

@@ -36,7 +36,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	size := plotting.Size{Width: *width, Height: *height, DPI: *dpi}
 	if err := size.Check(); err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	path := fs.Arg(0)
 	t, err := survey.ReadRatingCSV(path, "", u)

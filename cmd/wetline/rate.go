@@ -139,7 +139,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	}
 	stages, err := f.stageSpec().Stages(p.Geometry)
 	if err != nil {
-		return rating.RatingReport{}, usageError{fmt.Errorf("rate: %w", err)}
+		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
 	}
 	rep, err := rating.Rate(p.Geometry, stages, rating.RateOptions{Options: opt, Lookup: lookup})
 	if err != nil {
@@ -180,7 +180,7 @@ const maxSlope = 0.5
 // checkSlope refuses a slope that is a typing slip rather than a slope.
 func checkSlope(cmd string, s float64) error {
 	if s > maxSlope {
-		return usageError{fmt.Errorf("%s: --slope %g %w", cmd, s, ErrImplausibleSlope)}
+		return usageError{err: fmt.Errorf("%s: --slope %g %w", cmd, s, ErrImplausibleSlope)}
 	}
 	return nil
 }

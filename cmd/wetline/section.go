@@ -53,7 +53,7 @@ func (sf *sectionFlags) unitSystem() (survey.UnitChoice, error) {
 func unitChoice(text string, given bool) (survey.UnitChoice, error) {
 	u, err := rating.ParseUnits(text)
 	if err != nil {
-		return survey.UnitChoice{}, usageError{err}
+		return survey.UnitChoice{}, usageError{err: err}
 	}
 	return survey.UnitChoice{Units: u, Given: given}, nil
 }
@@ -67,7 +67,7 @@ func (sf *sectionFlags) request(path string) (survey.SectionRequest, error) {
 	}
 	c, err := rating.ParseComposite(sf.composite)
 	if err != nil {
-		return survey.SectionRequest{}, usageError{err}
+		return survey.SectionRequest{}, usageError{err: err}
 	}
 	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u.Units, UnitsGiven: u.Given}
 	if len(sf.n) > 0 {
@@ -88,7 +88,7 @@ func (sf *sectionFlags) prepare(path string) (*survey.Prepared, error) {
 	}
 	p, err := survey.Prepare(req)
 	if errors.Is(err, survey.ErrRequest) {
-		return nil, usageError{err}
+		return nil, usageError{err: err}
 	}
 	return p, err
 }
@@ -103,7 +103,7 @@ func (sf *sectionFlags) prepareIn(path string, u rating.Units) (*survey.Prepared
 	req.Units, req.UnitsGiven = u, true
 	p, err := survey.Prepare(req)
 	if errors.Is(err, survey.ErrRequest) {
-		return nil, usageError{err}
+		return nil, usageError{err: err}
 	}
 	return p, err
 }
@@ -113,7 +113,7 @@ func (sf *sectionFlags) prepareIn(path string, u rating.Units) (*survey.Prepared
 func failed(p *survey.Prepared, err error) error {
 	err = fmt.Errorf("%s: %w", p.Source(), err)
 	if errors.Is(err, subdivide.ErrAboveCrown) {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	return err
 }

@@ -32,11 +32,11 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	}
 	u, err := rating.ParseUnits(*units)
 	if err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	sh, err := subdivide.ParseShape(fs.Arg(0))
 	if err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	if sh.Closed() {
 		return usagef("shape %q: a closed conduit has no open ground line to write as a survey; use it directly with --shape", fs.Arg(0))
@@ -44,12 +44,12 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	var nv subdivide.PerRegion
 	if len(n) > 0 {
 		if nv, err = survey.ShapeN(sh, n); errors.Is(err, survey.ErrRequest) {
-			return usageError{err}
+			return usageError{err: err}
 		}
 	}
 	sec, err := sh.Section(nv)
 	if err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	comments := []string{
 		fmt.Sprintf("Built section %s, lengths in %s; invert at elevation %g.", sh.String(), u.Length(), sh.Invert),

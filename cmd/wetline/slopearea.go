@@ -62,11 +62,11 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 	var opt reach.EstimateOptions
 	u, err := rating.ParseUnits(f.units)
 	if err != nil {
-		return opt, usageError{err}
+		return opt, usageError{err: err}
 	}
 	side, err := reach.ParseSide(f.side)
 	if err != nil {
-		return opt, usageError{err}
+		return opt, usageError{err: err}
 	}
 	switch {
 	case f.draws < 0 || f.draws > reach.MaxDraws:
@@ -117,7 +117,7 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
+	if format == "xlsx" && f.output == "" {
 		return usagef("slopearea: an xlsx workbook needs -o FILE.xlsx")
 	}
 	opt, err := f.options(fs)
@@ -165,7 +165,7 @@ func estimate(path, sheet string, opt reach.EstimateOptions, unitsGiven bool) (r
 	}
 	rep, err := reach.Estimate(secs, opt)
 	if errors.Is(err, reach.ErrSlopeForReach) {
-		return rep, usageError{fmt.Errorf("slopearea: --slope: %w", err)}
+		return rep, usageError{err: fmt.Errorf("slopearea: --slope: %w", err)}
 	}
 	if err != nil {
 		return rep, rt.PlaceError(err)

@@ -38,7 +38,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	}
 	u, err := rating.ParseUnits(*units)
 	if err != nil {
-		return usageError{err}
+		return usageError{err: err}
 	}
 	opt := survey.TemplateOptions{Sections: *sections, Rows: *rows, Units: u}
 	for _, path := range *surveys {

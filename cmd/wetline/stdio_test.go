@@ -1,0 +1,58 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"os/exec"
+	"strings"
+	"testing"
+)
+
+// runProgram runs the test binary as the wetline program with stdin.
+func runProgram(t *testing.T, stdin []byte, args ...string) (stdout, stderr string, code int) {
+	t.Helper()
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), helperEnv+"=1")
+	cmd.Stdin = bytes.NewReader(stdin)
+	var out, errb bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errb
+	err := cmd.Run()
+	code = 0
+	if ee, ok := err.(*exec.ExitError); ok {
+		code = ee.ExitCode()
+	} else if err != nil {
+		t.Fatal(err)
+	}
+	return out.String(), errb.String(), code
+}
+
+// A survey read from standard input (-) rates as the same file does, and
+// -o - writes to standard output without making a file named -.
+func TestStandardInputAndOutput(t *testing.T) {
+	t.Parallel()
+	data, err := os.ReadFile(demoSurveyPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, _, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001")
+	if code != 0 {
+		t.Fatal(code)
+	}
+	got, errs, code := runProgram(t, data, "rate", "-", "--slope", "0.001", "-o", "-")
+	if code != 0 || got != want {
+		t.Errorf("rate - -o -: exit %d %s\ngot  %.200q\nwant %.200q", code, errs, got, want)
+	}
+	if _, err := os.Stat("-"); err == nil {
+		t.Error("a file named - was made")
+	}
+	// Workbook bytes on standard input are read as a workbook.
+	dir := t.TempDir()
+	if _, errs, code := runCLI(t, "template", "-o", dir+"/f.xlsx", "--survey", demoSurveyPath); code != 0 {
+		t.Fatal(errs)
+	}
+	book, _ := os.ReadFile(dir + "/f.xlsx")
+	got, errs, code = runProgram(t, book, "rate", "-", "--sheet", "tallow-xs1", "--slope", "0.001")
+	if code != 0 || !strings.HasPrefix(got, "stage,depth") {
+		t.Errorf("workbook on standard input: exit %d %s", code, errs)
+	}
+}
