@@ -73,8 +73,15 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	if !math.IsNaN(in.ZeroFlow) {
 		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
 	}
+	// The section is drawn in elevations; the rating and the properties
+	// in the table's stages, which may be gauge heights.
+	datum := 0.0
+	if t.GaugeHeights {
+		datum = t.Datum
+		rp.Subtitle += fmt.Sprintf("; stages are gauge heights, gauge zero at elevation %g %s", datum, t.Units.Length())
+	}
 	bankfull, hasBankfull := in.Ground.Section.Bankfull()
-	rp.Bankfull, rp.HasBankfull = bankfull, hasBankfull
+	rp.Bankfull, rp.HasBankfull = bankfull-datum, hasBankfull
 	if err := set.add("rating", "stage–discharge rating, linear and log–log", func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
 	}); err != nil {
@@ -83,14 +90,14 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	if len(in.Ground.Section.Points) > 0 {
 		if err := set.add("section", "surveyed cross-section with subsections and water surfaces", func(w io.Writer) (Result, error) {
 			return CrossSection(w, SectionPlot{Site: in.Site, Section: in.Ground.Section, Units: t.Units,
-				Marks: in.Ground.Labels, Water: waterSurfaces(t, bankfull, hasBankfull), Geometry: in.Geometry, Size: in.Size})
+				Marks: in.Ground.Labels, Water: waterSurfaces(t, datum, bankfull, hasBankfull), Geometry: in.Geometry, Size: in.Size})
 		}); err != nil {
 			return nil, nil, err
 		}
 	}
 	err := set.add("properties", "area, top width, hydraulic radius, conveyance, alpha and velocity against stage", func(w io.Writer) (Result, error) {
 		return Properties(w, PropertiesPlot{Site: in.Site, Section: t.Name, Units: t.Units,
-			Rows: PropertiesFromTable(t), Bankfull: bankfull, HasBankfull: hasBankfull, Size: in.Size})
+			Rows: PropertiesFromTable(t), Bankfull: bankfull - datum, HasBankfull: hasBankfull, Size: in.Size})
 	})
 	if err != nil {
 		set.warnings = append(set.warnings, "no properties figure: "+err.Error())
@@ -98,14 +105,16 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	return set.figs, set.warnings, nil
 }
 
-// waterSurfaces are the lines of a rating's section figure: bankfull,
-// and the highest rated stage when it is above bankfull.
-func waterSurfaces(t rating.Table, bankfull float64, hasBankfull bool) []WaterSurface {
+// waterSurfaces are the lines of a rating's section figure, in
+// elevations: bankfull, and the highest rated stage (a gauge height plus
+// datum) when it is above bankfull.
+func waterSurfaces(t rating.Table, datum, bankfull float64, hasBankfull bool) []WaterSurface {
 	water := []WaterSurface{}
 	if hasBankfull {
 		water = append(water, WaterSurface{Stage: bankfull, Label: "bankfull", Shade: true})
 	}
-	if _, top, ok := t.StageRange(); ok && (!hasBankfull || top > bankfull) {
+	if _, top, ok := t.StageRange(); ok && (!hasBankfull || top+datum > bankfull) {
+		top += datum
 		water = append(water, WaterSurface{Stage: top, Label: "highest rated stage", Shade: !hasBankfull})
 	}
 	return water

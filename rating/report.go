@@ -105,20 +105,25 @@ type RatingReport struct {
 }
 
 // RateOptions configure Rate. The zero value of Lookup leaves the lookup
-// table out.
+// table out; that of GaugeHeights rates elevations.
 type RateOptions struct {
 	Options
 	// Lookup also rates every hundredth of stage over the table's range.
 	Lookup bool
+	// GaugeHeights makes the stages given, and those of the table, gauge
+	// heights on a gauge whose zero lies at elevation Datum (length unit):
+	// the section is rated at elevation = gauge height + Datum.
+	GaugeHeights bool
+	Datum        float64
 }
 
 // Rate computes the rating report of geometry g at the given stages
-// (Compute), and with opt.Lookup the lookup table at every hundredth over
-// the same range (a range too long for it gives a warning and no lookup
-// table). The report's Ground, Provenance and Figures are left for the
+// (Compute; gauge heights with opt.GaugeHeights), and with opt.Lookup the
+// lookup table at every hundredth over the same range (a range too long
+// for it gives a warning and no lookup table). The report's Ground, Provenance and Figures are left for the
 // caller. Errors are Compute's.
 func Rate(g subdivide.Geometry, stages []float64, opt RateOptions) (RatingReport, error) {
-	t, err := Compute(g, stages, opt.Options)
+	t, err := opt.compute(g, stages)
 	rep := RatingReport{Table: t, Warnings: append([]string(nil), t.Warnings...)}
 	if err != nil || !opt.Lookup {
 		return rep, err
@@ -132,10 +137,29 @@ func Rate(g subdivide.Geometry, stages []float64, opt RateOptions) (RatingReport
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("no lookup table: %v", err))
 		return rep, nil
 	}
-	if rep.Lookup, err = Compute(g, fine, opt.Options); err != nil {
+	if rep.Lookup, err = opt.compute(g, fine); err != nil {
 		return rep, fmt.Errorf("lookup table: %w", err)
 	}
 	return rep, nil
+}
+
+// compute rates g at stages, as gauge heights when asked.
+func (opt RateOptions) compute(g subdivide.Geometry, stages []float64) (Table, error) {
+	if !opt.GaugeHeights {
+		return Compute(g, stages, opt.Options)
+	}
+	elev := make([]float64, len(stages))
+	for i, h := range stages {
+		elev[i] = h + opt.Datum
+	}
+	t, err := Compute(g, elev, opt.Options)
+	t.GaugeHeights, t.Datum = true, opt.Datum
+	t.Bottom -= opt.Datum
+	t.Top -= opt.Datum
+	for i := range t.Rows {
+		t.Rows[i].Stage = stages[i]
+	}
+	return t, err
 }
 
 // StageRange returns the lowest and highest stage of the table's rows;
@@ -221,6 +245,10 @@ type StageSpec struct {
 	List []float64
 	// From, To and Step lay out a range (length unit).
 	From, To, Step float64
+	// Datum, for stages that are gauge heights, is the elevation of the
+	// gauge's zero: defaults are laid out from bottom − Datum to top −
+	// Datum (zero: stages are elevations).
+	Datum float64
 }
 
 // ErrStageSpec is returned for a list given together with a range.
@@ -243,14 +271,17 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 		return append([]float64(nil), s.List...), nil
 	}
 	if !ranged {
+		if s.Datum != 0 {
+			return DefaultStages(shifted{g, s.Datum}), nil
+		}
 		return DefaultStages(g), nil
 	}
 	from, to, step := s.From, s.To, s.Step
 	if math.IsNaN(from) {
-		from = g.Bottom()
+		from = g.Bottom() - s.Datum
 	}
 	if math.IsNaN(to) {
-		to = g.Top()
+		to = g.Top() - s.Datum
 	}
 	if math.IsNaN(step) {
 		step = NiceStep((to - from) / MaxDefaultRows)
@@ -262,3 +293,12 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 func DefaultStageSpec() StageSpec {
 	return StageSpec{From: math.NaN(), To: math.NaN(), Step: math.NaN()}
 }
+
+// shifted is a geometry seen on a gauge: its bottom and top less a datum.
+type shifted struct {
+	subdivide.Geometry
+	datum float64
+}
+
+func (g shifted) Bottom() float64 { return g.Geometry.Bottom() - g.datum }
+func (g shifted) Top() float64    { return g.Geometry.Top() - g.datum }

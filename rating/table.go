@@ -31,8 +31,14 @@ type Table struct {
 	Units Units
 	// Slope is the friction slope used.
 	Slope float64
-	// Bottom is the lowest ground elevation; Top the lower end elevation.
+	// Bottom is the lowest ground elevation; Top the lower end elevation
+	// (as gauge heights when GaugeHeights is set).
 	Bottom, Top float64
+	// GaugeHeights reports a table whose stages are gauge heights read on a
+	// gauge whose zero lies at elevation Datum: elevation = stage + Datum.
+	// When false, stages are elevations and Datum is unused.
+	GaugeHeights bool
+	Datum        float64
 	// Subsections is the subsection layout, in the order of Row.Subs.
 	Subsections []subdivide.Subsection
 	// Rows holds one row per stage, in the order the stages were given.

@@ -11,7 +11,7 @@ import (
 	"wetline/survey"
 )
 
-const plotUsage = "plot TABLE.csv [--section SURVEY [--n N] [--banks A,B]] [--units si|us] [--zero-flow E] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
+const plotUsage = "plot TABLE.csv [--section SURVEY [--n N] [--banks A,B]] [--units si|us] [--zero-flow E] [--datum D] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
 
 func runPlot(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("plot", plotUsage)
@@ -20,6 +20,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	section := fs.String("section", "", "surveyed cross-section of the table, for the section figure")
 	zeroFlow := fs.Float64("zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
 	site := fs.String("site", "", "site name for the figure titles")
+	datum := fs.Float64("datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
 	width := fs.Int("width", plotting.DefaultWidth, "figure width in pixels")
 	height := fs.Int("height", plotting.DefaultHeight, "figure height in pixels")
 	dpi := fs.Int("dpi", plotting.DefaultDPI, "figure resolution in dots per inch (text keeps its size in points)")
@@ -42,6 +43,9 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	t, err := survey.ReadRatingCSV(path, "", u)
 	if err != nil {
 		return err
+	}
+	if fs.Changed("datum") {
+		t.GaugeHeights, t.Datum = true, *datum
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)

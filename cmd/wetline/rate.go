@@ -28,7 +28,7 @@ type rateFlags struct {
 	long           bool
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--calibrate GAUGINGS [--datum D] [--channel-only]] [--plots DIR]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--datum D] [--calibrate GAUGINGS [--channel-only]] [--plots DIR]"
 
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
@@ -61,7 +61,7 @@ func (f *rateFlags) check(fs *flagSet) error {
 
 // stageSpec returns the stages asked for.
 func (f *rateFlags) stageSpec() rating.StageSpec {
-	return rating.StageSpec{List: f.stages, From: f.from, To: f.to, Step: f.step}
+	return rating.StageSpec{List: f.stages, From: f.from, To: f.to, Step: f.step, Datum: f.calib.datum}
 }
 
 // isBatch reports whether rate was given several surveys: more than one
@@ -141,7 +141,8 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
 	}
-	rep, err := rating.Rate(p.Geometry, stages, rating.RateOptions{Options: opt, Lookup: lookup})
+	gauge := fs.Changed("datum")
+	rep, err := rating.Rate(p.Geometry, stages, rating.RateOptions{Options: opt, Lookup: lookup, GaugeHeights: gauge, Datum: f.calib.datum})
 	if err != nil {
 		return rep, failed(p, err)
 	}

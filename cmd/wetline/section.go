@@ -130,7 +130,7 @@ type calibrateFlags struct {
 func (c *calibrateFlags) register(fs *flagSet) {
 	fs.StringVar(&c.gaugings, "calibrate", "", "gaugings file: scale n by the factor that best fits them (least squares in ln Q)")
 	fs.StringVar(&c.sheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
-	fs.Float64Var(&c.datum, "datum", 0, "with --calibrate: elevation of the gauge's zero, elevation = gauge height + DATUM")
+	fs.Float64Var(&c.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: stages (and gaugings) are then gauge heights, elevation = gauge height + DATUM")
 	fs.BoolVar(&c.channelOnly, "channel-only", false, "with --calibrate: scale only the main channel's n")
 }
 
@@ -138,7 +138,7 @@ func (c *calibrateFlags) register(fs *flagSet) {
 // prepared geometry by the scaled one; the factor and the datum are stated
 // among the warnings so that every report carries them.
 func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Options) error {
-	if err := fs.needs("--calibrate GAUGINGS", c.gaugings != "", "gaugings-sheet", "datum", "channel-only"); err != nil {
+	if err := fs.needs("--calibrate GAUGINGS", c.gaugings != "", "gaugings-sheet", "channel-only"); err != nil {
 		return err
 	}
 	if c.gaugings == "" {

@@ -124,3 +124,29 @@ func pictures(figs []rating.Figure) []workbook.Picture {
 	}
 	return out
 }
+
+// jsonSite is a site in JSON; absent (null) when nothing is known.
+type jsonSite struct {
+	Name     string `json:"name"`
+	ID       string `json:"id"`
+	Surveyed string `json:"surveyed"`
+	Datum    string `json:"datum"`
+	Crew     string `json:"crew"`
+}
+
+// siteJSON returns the JSON of a site, nil when nothing is known.
+func siteJSON(s rating.Site) *jsonSite {
+	if !s.Known() {
+		return nil
+	}
+	return &jsonSite{Name: s.Name, ID: s.ID, Surveyed: s.Surveyed, Datum: s.Datum, Crew: s.Crew}
+}
+
+// gaugeDatum is a table's gauge datum in JSON: null when its stages are
+// elevations.
+func gaugeDatum(t rating.Table) Float {
+	if !t.GaugeHeights {
+		return Float(math.NaN())
+	}
+	return Float(t.Datum)
+}

@@ -173,9 +173,11 @@ func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 		Units    map[string]string `json:"units"`
 		Slope    Float             `json:"slope"`
 		Rows     []jsonRow         `json:"rows"`
+		Datum    Float             `json:"gauge_datum"`
+		Site     *jsonSite         `json:"site"`
 		Warnings []string          `json:"warnings"`
 		Caution  string            `json:"caution"`
-	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, warnings, rating.Caution}
+	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, gaugeDatum(t), siteJSON(rep.Provenance.Site), warnings, rating.Caution}
 	return writeJSON(w, out)
 }
 
@@ -186,8 +188,15 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 	t, warnings := rep.Table, rep.Warnings
 	u := t.Units
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "Rating of %s at friction slope %g (%s units: stage and lengths %s, area %s, discharge %s)\n\n",
+	fmt.Fprintf(bw, "Rating of %s at friction slope %g (%s units: stage and lengths %s, area %s, discharge %s)\n",
 		t.Name, t.Slope, u, u.Length(), u.Area(), u.Discharge())
+	if s := rep.Provenance.Site.String(); s != "" {
+		fmt.Fprintf(bw, "Site: %s\n", s)
+	}
+	if t.GaugeHeights {
+		fmt.Fprintf(bw, "Stages are gauge heights: elevation = gauge height + %s %s\n", FormatFloat(t.Datum), u.Length())
+	}
+	bw.WriteByte('\n')
 	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
 	units := []string{u.Length(), u.Length(), u.Area(), u.Length(), u.Length(), u.Length(), u.Conveyance(), u.Discharge(), u.Velocity(), "", ""}
 	for i := range head {

@@ -334,6 +334,8 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 		{"method", "Manning's equation by subsection, conveyance summed (Chow, 1959)", ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, u.Length(), u.Discharge()), ""},
 		{"friction slope", t.Slope, u.Length() + "/" + u.Length()},
+		{"site", rep.Provenance.Site.String(), ""},
+		{"stages", stagesWords(t), ""},
 		{"lowest ground", t.Bottom, u.Length()},
 		{"lower end of the section", t.Top, u.Length()},
 	}
@@ -366,4 +368,12 @@ func newBook(title string) *workbook.Book {
 	b := workbook.NewBook()
 	b.Title, b.Footer = title, rating.Caution
 	return b
+}
+
+// stagesWords says what a table's stages are.
+func stagesWords(t rating.Table) string {
+	if t.GaugeHeights {
+		return fmt.Sprintf("gauge heights: elevation = gauge height + %s %s", FormatFloat(t.Datum), t.Units.Length())
+	}
+	return "elevations in the survey's datum"
 }
