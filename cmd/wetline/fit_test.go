@@ -140,7 +140,7 @@ func TestFitUsageErrors(t *testing.T) {
 		{"fit", fitDemoGaugings, "--segments", "3", "--breaks", "1"},
 		{"fit", fitDemoGaugings, "--format", "xml"},
 		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only", "--segments", "2"},
-		{"rate", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"},
+		{"rate", fitDemoSurvey, "--slope", "0.0012", "--channel-only"},
 	} {
 		_, _, err := fitRun(t, args...)
 		var ue usageError
