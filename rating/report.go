@@ -236,15 +236,18 @@ func Hundredths(h float64) (int64, bool) {
 }
 
 // StageSpec is how the stages of a table are asked for: a list, or a
-// range from From to To in steps of Step. NaN in From, To or Step means
-// the default: the lowest ground point, the lower end of the section, and
-// a round step giving about MaxDefaultRows rows. The zero value of List
-// with all three NaN asks for DefaultStages.
+// range from From to To in steps of Step. A bound not set defaults to the
+// lowest ground point or the lower end of the section, a zero Step to a
+// round step giving about MaxDefaultRows rows. The zero value asks for
+// DefaultStages.
 type StageSpec struct {
 	// List holds explicit stages (length unit), any order.
 	List []float64
-	// From, To and Step lay out a range (length unit).
-	From, To, Step float64
+	// From and To bound a range (length unit) when FromSet and ToSet.
+	From, To       float64
+	FromSet, ToSet bool
+	// Step is the range's step (length unit; zero: a round step).
+	Step float64
 	// Datum, for stages that are gauge heights, is the elevation of the
 	// gauge's zero: defaults are laid out from bottom − Datum to top −
 	// Datum (zero: stages are elevations).
@@ -254,11 +257,15 @@ type StageSpec struct {
 // ErrStageSpec is returned for a list given together with a range.
 var ErrStageSpec = errors.New("give a list of stages or a range, not both")
 
+// ErrNoLowPoint is returned for default stages of a section whose lower
+// end is its lowest point: it holds no water below its ends.
+var ErrNoLowPoint = errors.New("the section's lower end is its lowest point, so it holds no water below its ends: ask for stages above it (the ends are then extended with vertical walls)")
+
 // Stages returns the stages the spec asks for in geometry g: the list as
 // given, DefaultStages, or StageRange over the range with its defaults
 // filled. Errors wrap ErrStageSpec or ErrStages.
 func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
-	ranged := !math.IsNaN(s.From) || !math.IsNaN(s.To) || !math.IsNaN(s.Step)
+	ranged := s.FromSet || s.ToSet || s.Step != 0
 	if len(s.List) > 0 {
 		if ranged {
 			return nil, ErrStageSpec
@@ -271,28 +278,30 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 		return append([]float64(nil), s.List...), nil
 	}
 	if !ranged {
+		if !(g.Top() > g.Bottom()) {
+			return nil, fmt.Errorf("%w (lowest point and lower end at %g)", ErrNoLowPoint, g.Bottom()-s.Datum)
+		}
 		if s.Datum != 0 {
 			return DefaultStages(shifted{g, s.Datum}), nil
 		}
 		return DefaultStages(g), nil
 	}
 	from, to, step := s.From, s.To, s.Step
-	if math.IsNaN(from) {
+	if !s.FromSet {
 		from = g.Bottom() - s.Datum
 	}
-	if math.IsNaN(to) {
+	if !s.ToSet {
 		to = g.Top() - s.Datum
 	}
-	if math.IsNaN(step) {
+	if step == 0 {
 		step = NiceStep((to - from) / MaxDefaultRows)
 	}
 	return StageRange(from, to, step)
 }
 
-// DefaultStageSpec asks for the default stages (see StageSpec).
-func DefaultStageSpec() StageSpec {
-	return StageSpec{From: math.NaN(), To: math.NaN(), Step: math.NaN()}
-}
+// DefaultStageSpec asks for the default stages (see StageSpec): it is the
+// zero value.
+func DefaultStageSpec() StageSpec { return StageSpec{} }
 
 // shifted is a geometry seen on a gauge: its bottom and top less a datum.
 type shifted struct {

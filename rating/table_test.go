@@ -1,6 +1,7 @@
 package rating_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -100,5 +101,20 @@ func TestComputeSweepMatchesClip(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// A section whose lower end is its lowest point holds no water below its
+// ends: default stages are refused instead of a table of zeros.
+func TestDefaultStagesNoLowPoint(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 5, 10, 3, 20, 0), N: []float64{0.03, 0.03}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := rating.DefaultStageSpec().Stages(p); !errors.Is(err, rating.ErrNoLowPoint) {
+		t.Errorf("default stages of a falling ground line: %v, want ErrNoLowPoint", err)
+	}
+	if st, err := (rating.StageSpec{List: []float64{1, 2}}).Stages(p); err != nil || len(st) != 2 {
+		t.Errorf("stages asked for: %v %v", st, err)
 	}
 }

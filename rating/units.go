@@ -91,3 +91,8 @@ func (u Units) Stress() string {
 
 // FeetPerMetre is the exact length of the international foot.
 const FeetPerMetre = 1 / 0.3048
+
+// MaxDischarge bounds a discharge given or read, in either unit system:
+// far above any river's flood (the largest are near 3·10⁵ m³/s), so a
+// larger number is a typing slip.
+const MaxDischarge = 1e8

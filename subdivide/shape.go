@@ -23,6 +23,10 @@ const (
 	Compound ShapeKind = "compound"
 )
 
+// MaxShapeSize bounds every dimension and the invert of a built shape
+// (length unit): larger numbers are typing slips, not channels.
+const MaxShapeSize = 1e5
+
 // ShapeForms lists the accepted spec forms, for error messages and help.
 const ShapeForms = "rectangle:width=W | trapezoid:bottom=B,side=Z (or left=ZL,right=ZR, or angle=DEG) | " +
 	"triangle:side=Z | circle:diameter=D | compound:bottom=B,side=Z,depth=H,floodplain=W[,outer=Z][,floodn=N]; " +
@@ -80,6 +84,7 @@ var (
 	ErrShapeKey      = errors.New("unknown key")
 	ErrShapeMissing  = errors.New("missing")
 	ErrShapeValue    = errors.New("not a finite number")
+	ErrShapeSize     = errors.New("too large for a built section")
 	ErrShapePositive = errors.New("must be positive")
 	ErrShapeNegative = errors.New("must not be negative")
 	ErrShapeRepeated = errors.New("given twice")
@@ -239,6 +244,9 @@ func (s Shape) Validate() error {
 		{"diameter", s.Diameter}, {"depth", s.Depth}, {"floodplain", s.Floodplain}, {"outer", s.Outer}, {"floodn", s.FloodN}} {
 		if !finite(f.v) {
 			return bad(f.key, ErrShapeValue)
+		}
+		if math.Abs(f.v) > MaxShapeSize {
+			return bad(f.key, fmt.Errorf("%w: %g is beyond %g", ErrShapeSize, f.v, float64(MaxShapeSize)))
 		}
 	}
 	if s.Height < 0 {

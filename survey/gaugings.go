@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -99,14 +100,17 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		nsec int
 	}
 	seen := map[instant]int{} // time → row; offsets count, so 10:00+01:00 is 09:00Z
-	number := func(rec Record, col int, what string) (float64, bool) {
+	number := func(rec Record, col int, what string, limit float64) (float64, bool) {
 		v, ok, err := t.Float(rec, col)
-		if err != nil {
+		switch {
+		case err != nil:
 			errs = append(errs, err.(*ParseError))
 			return 0, false
-		}
-		if !ok {
+		case !ok:
 			add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
+		case math.Abs(v) > limit:
+			add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
+			return v, false
 		}
 		return v, ok
 	}
@@ -129,9 +133,9 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 			}
 		}
 		var ok bool
-		g.Stage, ok = number(rec, cs, "stage")
+		g.Stage, ok = number(rec, cs, "stage", MaxElevation)
 		okAll = okAll && ok
-		g.Discharge, ok = number(rec, cq, "discharge")
+		g.Discharge, ok = number(rec, cq, "discharge", rating.MaxDischarge)
 		okAll = okAll && ok
 		if ok && g.Discharge < 0 {
 			add(rec, cq, ErrNegativeDischarge)

@@ -86,6 +86,11 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
 	sec := sv.Section
 	if req.Banks != nil {
+		for _, b := range req.Banks {
+			if math.Abs(b) > MaxCoordinate {
+				return nil, fmt.Errorf("%w: bank station %g is beyond ±%g", ErrRequest, b, float64(MaxCoordinate))
+			}
+		}
 		if len(req.Banks) != 2 {
 			return nil, fmt.Errorf("%w: bank stations: want two, LEFT,RIGHT; got %d", ErrRequest, len(req.Banks))
 		}
@@ -135,8 +140,8 @@ func Position(path, sheet string) string {
 // right) into n by region; three need banks unless the caller checks.
 func regionN(v []float64, hasBanks, needBanks bool) (subdivide.PerRegion, error) {
 	for _, n := range v {
-		if !(n > 0) || math.IsInf(n, 0) {
-			return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n %v: must be a positive number", ErrRequest, n)
+		if !(n >= MinN && n <= MaxN) {
+			return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n %v is not a plausible n (%g to %g)", ErrRequest, n, MinN, MaxN)
 		}
 	}
 	switch len(v) {

@@ -1,6 +1,7 @@
 package survey
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -75,132 +76,218 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 	return SectionFromTable(t, opt)
 }
 
+// Plausible bounds of survey values: beyond them a value is a typing
+// slip or a unit mistake, not a river. Lengths are in the survey's unit.
+const (
+	// MaxCoordinate bounds |station| (a projected coordinate may be large).
+	MaxCoordinate = 1e8
+	// MaxElevation bounds |elevation| (no ground lies 100 km up or down).
+	MaxElevation = 1e5
+	// MinN and MaxN bound Manning's n: below 0.005 no channel is so
+	// smooth, above 1 the value is not an n (common practice).
+	MinN, MaxN = 0.005, 1.0
+)
+
+// Causes of implausible survey values, for errors.Is.
+var (
+	ErrImplausible  = errors.New("is not a plausible value")
+	ErrFirstNBlank  = errors.New("n is blank on the first point: there is no value above to carry; give the n of the ground from this point to the next")
+	ErrEmptyNColumn = errors.New("the n column is empty")
+)
+
 // SectionFromTable turns a table with station and elevation columns (and
 // optional n, mark and note columns) into a survey. Every bad cell is
-// reported, each naming its row and column.
+// reported, each naming its row and column: a blank, unreadable or
+// implausible station, elevation or n (see MaxCoordinate, MaxElevation,
+// MinN, MaxN), a station less than the one before, a blank n on the first
+// point of an n column, a count of bank marks other than two.
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
-	sv := Survey{File: t.File, Sheet: t.Sheet}
-	sv.Section.Name = sectionName(t)
-	cs, err := t.Require(ColStation)
+	r, err := newSectionReader(t)
 	if err != nil {
-		return sv, err
+		return r.sv, err
 	}
-	ce, err := t.Require(ColElevation)
-	if err != nil {
-		return sv, err
-	}
-	if sv.Units, err = t.HeaderUnits(cs, ce); err != nil {
-		return sv, err
-	}
-	sv.Site = t.Site()
-	cn := t.Column(ColN, "manning_n", "mannings_n")
-	cm := t.Column(ColMark)
-	cnote := t.Column(ColNote)
-	var errs errorList
-	add := func(rec Record, col int, err error) {
-		errs = append(errs, t.At(rec, col, err))
-	}
-	var banks []int // indices of points marked bank
-	var bankRows []Record
-	nCur := math.NaN()
-	var ns []float64
 	for _, rec := range t.Records {
-		x, okx, err := t.Float(rec, cs)
-		if err != nil {
-			errs = append(errs, err.(*ParseError))
-		} else if !okx {
-			add(rec, cs, fmt.Errorf("%w: station is blank", ErrNotNumber))
+		r.point(rec)
+	}
+	if len(r.errs) > 0 {
+		return r.sv, r.errs.err()
+	}
+	if err := r.shape(); err != nil {
+		return r.sv, err
+	}
+	if err := r.roughness(); err != nil {
+		return r.sv, err
+	}
+	if !opt.IgnoreBankMarks {
+		if err := r.banks(); err != nil {
+			return r.sv, err
 		}
-		z, okz, err := t.Float(rec, ce)
-		if err != nil {
-			errs = append(errs, err.(*ParseError))
-		} else if !okz {
-			add(rec, ce, fmt.Errorf("%w: elevation is blank", ErrNotNumber))
-		}
-		if cn >= 0 {
-			n, ok, err := t.Float(rec, cn)
-			switch {
-			case err != nil:
-				errs = append(errs, err.(*ParseError))
-			case ok && !(n > 0):
-				add(rec, cn, fmt.Errorf("roughness %w", ErrNotPositive))
-			case ok:
-				nCur = n
-				if n > HighN {
-					sv.Warnings = append(sv.Warnings, t.At(rec, cn, fmt.Errorf("roughness %g is above %.2f: check it", n, HighN)).Error())
-				}
+	}
+	r.gaps()
+	return r.sv, nil
+}
+
+// sectionReader reads the rows of a survey table.
+type sectionReader struct {
+	t              *Table
+	sv             Survey
+	cs, ce, cn, cm int
+	cnote          int
+	errs           errorList
+	ns             []float64 // n given on each row (NaN blank)
+	bankAt         []int     // indices of points marked bank
+	bankRows       []Record
+}
+
+// newSectionReader finds the columns and the units of a survey table.
+func newSectionReader(t *Table) (*sectionReader, error) {
+	r := &sectionReader{t: t, sv: Survey{File: t.File, Sheet: t.Sheet, Site: t.Site()}}
+	r.sv.Section.Name = sectionName(t)
+	var err error
+	if r.cs, err = t.Require(ColStation); err != nil {
+		return r, err
+	}
+	if r.ce, err = t.Require(ColElevation); err != nil {
+		return r, err
+	}
+	if r.sv.Units, err = t.HeaderUnits(r.cs, r.ce); err != nil {
+		return r, err
+	}
+	r.cn = t.Column(ColN, "manning_n", "mannings_n")
+	r.cm = t.Column(ColMark)
+	r.cnote = t.Column(ColNote)
+	return r, nil
+}
+
+// add records an error at a cell.
+func (r *sectionReader) add(rec Record, col int, err error) {
+	r.errs = append(r.errs, r.t.At(rec, col, err))
+}
+
+// number reads a required number cell within ±limit.
+func (r *sectionReader) number(rec Record, col int, what string, limit float64) (float64, bool) {
+	v, ok, err := r.t.Float(rec, col)
+	switch {
+	case err != nil:
+		r.errs = append(r.errs, err.(*ParseError))
+		return 0, false
+	case !ok:
+		r.add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
+		return 0, false
+	case math.Abs(v) > limit:
+		r.add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
+		return 0, false
+	}
+	return v, true
+}
+
+// point reads one surveyed point.
+func (r *sectionReader) point(rec Record) {
+	x, okx := r.number(rec, r.cs, "station", MaxCoordinate)
+	z, _ := r.number(rec, r.ce, "elevation", MaxElevation)
+	n := math.NaN()
+	if r.cn >= 0 {
+		v, ok, err := r.t.Float(rec, r.cn)
+		switch {
+		case err != nil:
+			r.errs = append(r.errs, err.(*ParseError))
+		case ok && !(v > 0):
+			r.add(rec, r.cn, fmt.Errorf("roughness %w", ErrNotPositive))
+		case ok && (v < MinN || v > MaxN):
+			r.add(rec, r.cn, fmt.Errorf("Manning's n %g %w (%g to %g)", v, ErrImplausible, MinN, MaxN))
+		case ok:
+			n = v
+			if v > HighN {
+				r.sv.Warnings = append(r.sv.Warnings, r.t.At(rec, r.cn, fmt.Errorf("roughness %g is above %.2f: check it", v, HighN)).Error())
 			}
 		}
-		i := len(sv.Section.Points)
-		if i > 0 && okx && x < sv.Section.Points[i-1].Station {
-			add(rec, cs, subdivide.ErrOverhang)
-		}
-		sv.Section.Points = append(sv.Section.Points, subdivide.Point{Station: x, Elevation: z})
-		ns = append(ns, nCur)
-		sv.Rows = append(sv.Rows, rec.Row)
-		mark := strings.TrimSpace(t.Cell(rec, cm))
-		if strings.EqualFold(mark, MarkBank) {
-			banks = append(banks, i)
-			bankRows = append(bankRows, rec)
-			mark = ""
-		}
-		sv.Labels = append(sv.Labels, mark)
-		sv.Notes = append(sv.Notes, t.Cell(rec, cnote))
 	}
-	if len(errs) > 0 {
-		return sv, errs.err()
+	pts := r.sv.Section.Points
+	if i := len(pts); i > 0 && okx && x < pts[i-1].Station {
+		r.add(rec, r.cs, subdivide.ErrOverhang)
 	}
-	pts := sv.Section.Points
+	r.sv.Section.Points = append(pts, subdivide.Point{Station: x, Elevation: z})
+	r.ns = append(r.ns, n)
+	r.sv.Rows = append(r.sv.Rows, rec.Row)
+	mark := strings.TrimSpace(r.t.Cell(rec, r.cm))
+	if strings.EqualFold(mark, MarkBank) {
+		r.bankAt = append(r.bankAt, len(pts))
+		r.bankRows = append(r.bankRows, rec)
+		mark = ""
+	}
+	r.sv.Labels = append(r.sv.Labels, mark)
+	r.sv.Notes = append(r.sv.Notes, r.t.Cell(rec, r.cnote))
+}
+
+// shape checks the ground line has two points and some width.
+func (r *sectionReader) shape() error {
+	t, pts := r.t, r.sv.Section.Points
 	if len(pts) < 2 {
-		return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: fmt.Errorf("%w, found %d", subdivide.ErrTooFewPoints, len(pts))}
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: fmt.Errorf("%w, found %d", subdivide.ErrTooFewPoints, len(pts))}
 	}
 	if pts[len(pts)-1].Station == pts[0].Station {
-		return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.Records[len(t.Records)-1].Row, Column: cs + 1, Name: t.Header[cs],
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.Records[len(t.Records)-1].Row, Column: r.cs + 1, Name: t.Header[r.cs],
 			Err: subdivide.ErrZeroWidth}
 	}
-	if cn >= 0 {
-		// n of point i applies to the segment i → i+1. A blank first cell
-		// takes the first value given below it.
-		first := math.NaN()
-		for _, n := range ns {
-			if !math.IsNaN(n) {
-				first = n
-				break
-			}
-		}
-		if math.IsNaN(first) {
-			return sv, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: cn + 1, Name: t.Header[cn],
-				Err: fmt.Errorf("the n column is empty")}
-		}
-		sv.Section.N = make([]float64, len(pts)-1)
-		for i := range sv.Section.N {
-			if math.IsNaN(ns[i]) {
-				sv.Section.N[i] = first
-			} else {
-				sv.Section.N[i] = ns[i]
-			}
-		}
+	return nil
+}
+
+// roughness sets n of each segment: n of point i applies to the segment
+// i → i+1, and a blank cell carries the value above.
+func (r *sectionReader) roughness() error {
+	if r.cn < 0 {
+		return nil
 	}
-	if !opt.IgnoreBankMarks && cm >= 0 && len(banks) > 0 {
-		if len(banks) != 2 {
-			rec := bankRows[len(bankRows)-1]
-			return sv, t.At(rec, cm, fmt.Errorf("%w, found %d", ErrBankMarks, len(banks)))
-		}
-		sv.Section.HasBanks = true
-		sv.Section.LeftBank = pts[banks[0]].Station
-		sv.Section.RightBank = pts[banks[1]].Station
-		if !(sv.Section.LeftBank < sv.Section.RightBank) {
-			return sv, t.At(bankRows[1], cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
-		}
+	t := r.t
+	empty := true
+	for _, n := range r.ns {
+		empty = empty && math.IsNaN(n)
 	}
+	if empty {
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: r.cn + 1, Name: t.Header[r.cn], Err: ErrEmptyNColumn}
+	}
+	if math.IsNaN(r.ns[0]) {
+		return t.At(t.Records[0], r.cn, ErrFirstNBlank)
+	}
+	sec := &r.sv.Section
+	sec.N = make([]float64, len(sec.Points)-1)
+	cur := r.ns[0]
+	for i := range sec.N {
+		if !math.IsNaN(r.ns[i]) {
+			cur = r.ns[i]
+		}
+		sec.N[i] = cur
+	}
+	return nil
+}
+
+// banks sets the bank stations from the two points marked bank.
+func (r *sectionReader) banks() error {
+	if r.cm < 0 || len(r.bankAt) == 0 {
+		return nil
+	}
+	t, pts, sec := r.t, r.sv.Section.Points, &r.sv.Section
+	if len(r.bankAt) != 2 {
+		return t.At(r.bankRows[len(r.bankRows)-1], r.cm, fmt.Errorf("%w, found %d", ErrBankMarks, len(r.bankAt)))
+	}
+	sec.HasBanks = true
+	sec.LeftBank, sec.RightBank = pts[r.bankAt[0]].Station, pts[r.bankAt[1]].Station
+	if !(sec.LeftBank < sec.RightBank) {
+		return t.At(r.bankRows[1], r.cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
+	}
+	return nil
+}
+
+// gaps warns of a gap between stations over MaxGapFraction of the width.
+func (r *sectionReader) gaps() {
+	pts := r.sv.Section.Points
 	width := pts[len(pts)-1].Station - pts[0].Station
 	for i := 1; i < len(pts); i++ {
 		if gap := pts[i].Station - pts[i-1].Station; gap > MaxGapFraction*width {
-			sv.Warnings = append(sv.Warnings, fmt.Sprintf("%s: gap of %g between stations %g and %g is over %.0f %% of the section width: check for missing points",
-				where(t, sv.Rows[i]), gap, pts[i-1].Station, pts[i].Station, MaxGapFraction*100))
+			r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: gap of %g between stations %g and %g is over %.0f %% of the section width: check for missing points",
+				where(r.t, r.sv.Rows[i]), gap, pts[i-1].Station, pts[i].Station, MaxGapFraction*100))
 		}
 	}
-	return sv, nil
 }
 
 func where(t *Table, row int) string {

@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 	"strings"
 	"time"
+	"wetline/survey"
 
 	"wetline/rating"
 	"wetline/survey/batch"
@@ -26,6 +27,13 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	}
 	if f.allSheets && fs.Changed("sheet") {
 		return usagef("rate: give --all-sheets or --sheet, not both")
+	}
+	if fs.Changed("sheet") {
+		for _, a := range fs.Args() {
+			if !survey.IsWorkbook(a) {
+				return usagef("rate: --sheet names a sheet of the workbooks, and %s is not one", a)
+			}
+		}
 	}
 	var format string
 	var err error
@@ -53,7 +61,7 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	}
 	e.files.Protect(inputs...)
 	prog := &progress{e: e, total: len(jobs), start: time.Now()}
-	opt := batch.Options{Request: req, Stages: f.stageSpec(), Progress: prog.update,
+	opt := batch.Options{Request: req, Stages: f.stageSpec(fs), Progress: prog.update,
 		Rating: rating.Options{Slope: f.slope, Units: req.Units, Geometry: f.geometry()}}
 	sum, where, err := writeBatch(ctx, e, f, format, jobs, opt)
 	prog.done()

@@ -162,6 +162,9 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	if err := fs.positive("step", "segments"); err != nil {
 		return opt, err
 	}
+	if err := fs.within(survey.MaxElevation, "datum", "to", "step"); err != nil {
+		return opt, err
+	}
 	opt.ChannelOnly, opt.CompareOnly = f.channelOnly, f.compareOnly
 	if f.compareOnly {
 		for _, name := range []string{"segments", "breaks", "zero-flow", "to", "step"} {

@@ -35,6 +35,12 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	if err := fs.positive("width", "height", "dpi"); err != nil {
+		return err
+	}
+	if err := fs.within(survey.MaxElevation, "datum", "zero-flow"); err != nil {
+		return err
+	}
 	size := plotting.Size{Width: *width, Height: *height, DPI: *dpi}
 	if err := size.Check(); err != nil {
 		return usageError{err: err}

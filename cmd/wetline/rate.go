@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"wetline/survey"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -53,6 +54,9 @@ func (f *rateFlags) check(fs *flagSet) error {
 	if err := fs.positive("step"); err != nil {
 		return err
 	}
+	if err := fs.within(survey.MaxElevation, "from", "to", "step", "datum"); err != nil {
+		return err
+	}
 	if len(f.stages) > 0 && (fs.Changed("from") || fs.Changed("to") || fs.Changed("step")) {
 		return usagef("rate: give --stages or --from/--to/--step, not both")
 	}
@@ -60,8 +64,12 @@ func (f *rateFlags) check(fs *flagSet) error {
 }
 
 // stageSpec returns the stages asked for.
-func (f *rateFlags) stageSpec() rating.StageSpec {
-	return rating.StageSpec{List: f.stages, From: f.from, To: f.to, Step: f.step, Datum: f.calib.datum}
+func (f *rateFlags) stageSpec(fs *flagSet) rating.StageSpec {
+	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum}
+	if fs.Changed("step") {
+		spec.Step = f.step
+	}
+	return spec
 }
 
 // isBatch reports whether rate was given several surveys: more than one
@@ -137,7 +145,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err := f.calib.apply(fs, p, opt); err != nil {
 		return rating.RatingReport{}, err
 	}
-	stages, err := f.stageSpec().Stages(p.Geometry)
+	stages, err := f.stageSpec(fs).Stages(p.Geometry)
 	if err != nil {
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
 	}

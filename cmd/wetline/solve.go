@@ -4,6 +4,7 @@ import (
 	"context"
 	"io"
 	"math"
+	"wetline/survey"
 
 	"wetline/rating"
 	"wetline/survey/results"
@@ -40,6 +41,12 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 		return usagef("solve: give one of --discharge Q, --area A or --stage H")
 	}
 	if err := fs.positive("discharge", "area", "slope"); err != nil {
+		return err
+	}
+	if err := fs.within(rating.MaxDischarge, "discharge", "area"); err != nil {
+		return err
+	}
+	if err := fs.within(survey.MaxElevation, "stage"); err != nil {
 		return err
 	}
 	if err := checkSlope("solve", slope); err != nil {

@@ -74,7 +74,7 @@ func BenchmarkBatch(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	opt := batch.Options{Stages: rating.StageSpec{From: 100, To: 105, Step: 0.025}, Rating: rating.Options{Slope: 0.001}}
+	opt := batch.Options{Stages: rating.StageSpec{From: 100, To: 105, FromSet: true, ToSet: true, Step: 0.025}, Rating: rating.Options{Slope: 0.001}}
 	cores := float64(runtime.GOMAXPROCS(0))
 	pool := func(opt batch.Options) time.Duration {
 		start := time.Now()

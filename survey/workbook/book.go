@@ -420,13 +420,17 @@ func (s *SheetWriter) Row(values ...any) error {
 		return err
 	}
 	if lines := s.lines(values); lines > 1 {
-		return s.sw.SetRow(cell, row, excelize.RowOpts{Height: float64(lines) * lineHeight})
+		return s.sw.SetRow(cell, row, excelize.RowOpts{Height: math.Min(float64(lines)*lineHeight, MaxRowHeight)})
 	}
 	return s.sw.SetRow(cell, row)
 }
 
 // lineHeight is the height of one line of text in a row, in points.
 const lineHeight = 15
+
+// MaxRowHeight is the tallest row a sheet may have, in points (the file
+// format's limit); longer text is cut off in view, kept whole in the cell.
+const MaxRowHeight = 409
 
 // lines estimates how many wrapped lines the longest text of a row takes,
 // taking a column's width in characters as the characters per line
