@@ -194,7 +194,7 @@ func (r *sectionReader) point(rec Record) {
 		case ok && !(v > 0):
 			r.add(rec, r.cn, fmt.Errorf("roughness %w", ErrNotPositive))
 		case ok && (v < MinN || v > MaxN):
-			r.add(rec, r.cn, fmt.Errorf("Manning's n %g %w (%g to %g)", v, ErrImplausible, MinN, MaxN))
+			r.add(rec, r.cn, fmt.Errorf("roughness %g %w for Manning's n (%g to %g)", v, ErrImplausible, MinN, MaxN))
 		case ok:
 			n = v
 			if v > HighN {
