@@ -37,6 +37,7 @@ var (
 	ErrDuplicateSection = errors.New("section id used twice")
 	ErrNoSurvey         = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
 	ErrSurveyAbsent     = errors.New("no such survey file or sheet")
+	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table (or allow it explicitly)")
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
@@ -107,6 +108,10 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 			row.Path = row.Survey
 		default:
 			row.Path = filepath.Join(filepath.Dir(path), row.Survey)
+		}
+		if row.Sheet == "" && !opt.SurveysAnywhere && !within(row.Path, filepath.Dir(path)) {
+			errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s)", ErrSurveyOutside, row.Path)))
+			continue
 		}
 		if row.Sheet == "" {
 			if st, err := os.Stat(row.Path); err != nil || st.IsDir() {
@@ -295,4 +300,21 @@ func (r *Reach) PlaceError(err error) error {
 		return r.At(se.Index, col, se.Err)
 	}
 	return fmt.Errorf("%s: %w", (&ParseError{File: r.File, Sheet: r.Sheet}).Position(), err)
+}
+
+// within reports whether path lies in folder dir or below it, after
+// resolving links where the files exist.
+func within(path, dir string) bool {
+	abs := func(p string) string {
+		if r, err := filepath.EvalSymlinks(p); err == nil {
+			p = r
+		}
+		a, err := filepath.Abs(p)
+		if err != nil {
+			return filepath.Clean(p)
+		}
+		return a
+	}
+	rel, err := filepath.Rel(abs(dir), abs(path))
+	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) && !filepath.IsAbs(rel)
 }

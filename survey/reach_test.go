@@ -213,3 +213,32 @@ func FuzzReachFromTable(f *testing.F) {
 		}
 	})
 }
+
+// A reach table names survey files in its own folder: a path outside it
+// (absolute, or climbing out with ..) is refused at its cell unless
+// allowed, and nothing of the file is read.
+func TestReachSurveyOutsideFolder(t *testing.T) {
+	root := t.TempDir()
+	dir := filepath.Join(root, "reach")
+	if err := os.Mkdir(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	secret := filepath.Join(root, "secret.csv")
+	if err := os.WriteFile(secret, []byte("station,elevation,n\n0,5,0.03\n10,0,0.03\n20,5,0.03\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, ref := range []string{"../secret.csv", secret} {
+		table := filepath.Join(dir, "reach.csv")
+		body := "section,survey,distance,ws_left,ws_right\nA," + ref + ",0,3,\nB," + ref + ",100,2.9,\n"
+		if err := os.WriteFile(table, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadReach(table, "", SectionOptions{})
+		if !errors.Is(err, ErrSurveyOutside) || !strings.Contains(err.Error(), "reach.csv:2:2") {
+			t.Errorf("survey %s: %v, want ErrSurveyOutside at reach.csv:2:2", ref, err)
+		}
+		if _, err := ReadReach(table, "", SectionOptions{SurveysAnywhere: true}); err != nil {
+			t.Errorf("survey %s allowed: %v", ref, err)
+		}
+	}
+}

@@ -37,6 +37,9 @@ type Survey struct {
 type SectionOptions struct {
 	// IgnoreBankMarks skips the check of bank marks (banks given elsewhere).
 	IgnoreBankMarks bool
+	// SurveysAnywhere lets a reach table name survey files outside its
+	// own folder (by default they must lie in it or below it).
+	SurveysAnywhere bool
 }
 
 // HighN is the Manning's n above which a value is warned about: higher

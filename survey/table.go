@@ -365,7 +365,7 @@ func (t *Table) Require(names ...string) (int, error) {
 		return i, nil
 	}
 	return -1, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
-		Err: fmt.Errorf("%w: the header needs a column named %q (found: %s)", ErrMissingColumn, names[0], strings.Join(t.Header, ", "))}
+		Err: fmt.Errorf("%w: the header needs a column named %q (found: %s)", ErrMissingColumn, names[0], headerList(t.Header))}
 }
 
 // At returns a ParseError positioned at a cell of a record.
@@ -512,4 +512,20 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		return t.Column(ColStation) >= 0 && t.Column(ColElevation) >= 0, nil
 	}
 	return false, rows.Error()
+}
+
+// maxListed bounds how many header names a message lists.
+const maxListed = 12
+
+// headerList lists header names for a message, each echoed short.
+func headerList(h []string) string {
+	var parts []string
+	for i, name := range h {
+		if i == maxListed {
+			parts = append(parts, fmt.Sprintf("and %d more", len(h)-maxListed))
+			break
+		}
+		parts = append(parts, echo(name))
+	}
+	return strings.Join(parts, ", ")
 }

@@ -359,7 +359,7 @@ func (d *demo) slopeArea() error {
 		return err
 	}
 	rep, err := estimate(d.path(demoReach), "", reach.EstimateOptions{Draws: demoReachDraws,
-		MonteCarlo: reach.MonteCarloOptions{Seed: 1, NCV: reach.DefaultNCV}}, false)
+		MonteCarlo: reach.MonteCarloOptions{Seed: 1, NCV: reach.DefaultNCV}}, survey.SectionOptions{}, false)
 	if err != nil {
 		return err
 	}

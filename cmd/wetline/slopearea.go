@@ -30,6 +30,7 @@ type slopeAreaFlags struct {
 	slope              float64
 	allPools           bool
 	noExtend           bool
+	anywhere           bool
 	format, output     string
 	plots, site        string
 }
@@ -51,6 +52,7 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&f.format, "format", "", "output format: text, json or xlsx (a results workbook with the inputs, checks, uncertainty and figures; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.BoolVar(&f.anywhere, "surveys-anywhere", false, "let the reach table name survey files outside its own folder")
 	for _, name := range []string{"mark-spread", "mark-sd"} {
 		fs.Lookup(name).DefValue = "" // the unit's default, stated in the usage text
 	}
@@ -125,7 +127,7 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	path := fs.Arg(0)
-	rep, err := estimate(path, f.sheet, opt, fs.Changed("units"))
+	rep, err := estimate(path, f.sheet, opt, survey.SectionOptions{SurveysAnywhere: f.anywhere}, fs.Changed("units"))
 	if err != nil {
 		return err
 	}
@@ -151,8 +153,8 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 }
 
 // estimate reads a reach table and its surveys and estimates the peak.
-func estimate(path, sheet string, opt reach.EstimateOptions, unitsGiven bool) (reach.Report, error) {
-	rt, err := survey.ReadReach(path, sheet, survey.SectionOptions{})
+func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOptions, unitsGiven bool) (reach.Report, error) {
+	rt, err := survey.ReadReach(path, sheet, ro)
 	if err != nil {
 		return reach.Report{}, err
 	}
