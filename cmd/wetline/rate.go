@@ -149,6 +149,11 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
 	}
+	if lookup { // the workbook: check its sheets hold the table before computing
+		if err := results.CheckRatingWorkbook(len(stages), len(p.Geometry.Subsections())); err != nil {
+			return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
+		}
+	}
 	gauge := fs.Changed("datum")
 	rep, err := rating.Rate(p.Geometry, stages, rating.RateOptions{Options: opt, Lookup: lookup, GaugeHeights: gauge, Datum: f.calib.datum})
 	if err != nil {

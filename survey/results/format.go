@@ -150,3 +150,56 @@ func gaugeDatum(t rating.Table) Float {
 	}
 	return Float(t.Datum)
 }
+
+// jsonField is one key of a JSON object written by writeJSONObject: a
+// value, or, with item set, an array of n items made one at a time.
+type jsonField struct {
+	key   string
+	value any
+	n     int
+	item  func(i int) any
+}
+
+// writeJSONObject writes an object's fields in order, indented as
+// writeJSON indents, streaming array fields item by item so that a long
+// table is never held whole as JSON.
+func writeJSONObject(w io.Writer, fields []jsonField) error {
+	bw := bufio.NewWriter(w)
+	bw.WriteString("{\n")
+	for k, f := range fields {
+		key, _ := json.Marshal(f.key)
+		bw.WriteString("  ")
+		bw.Write(key)
+		bw.WriteString(": ")
+		if f.item == nil {
+			v, err := json.MarshalIndent(f.value, "  ", "  ")
+			if err != nil {
+				return err
+			}
+			bw.Write(v)
+		} else if f.n == 0 {
+			bw.WriteString("[]")
+		} else {
+			bw.WriteString("[\n")
+			for i := range f.n {
+				v, err := json.MarshalIndent(f.item(i), "    ", "  ")
+				if err != nil {
+					return err
+				}
+				bw.WriteString("    ")
+				bw.Write(v)
+				if i < f.n-1 {
+					bw.WriteByte(',')
+				}
+				bw.WriteByte('\n')
+			}
+			bw.WriteString("  ]")
+		}
+		if k < len(fields)-1 {
+			bw.WriteByte(',')
+		}
+		bw.WriteByte('\n')
+	}
+	bw.WriteString("}\n")
+	return bw.Flush()
+}

@@ -140,45 +140,39 @@ type jsonRow struct {
 // {"section","units","slope","rows":[...],"warnings":[...],"caution"}.
 // Undefined values are null.
 func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
-	t, warnings := rep.Table, rep.Warnings
-	rows := make([]jsonRow, len(t.Rows))
-	for i, r := range t.Rows {
-		jr := jsonRow{
-			Stage: Float(r.Stage), Depth: Float(r.Depth), Area: Float(r.Area),
-			WettedPerimeter: Float(r.WettedPerimeter), TopWidth: Float(r.TopWidth),
-			HydraulicRadius: Float(r.HydraulicRadius), Conveyance: Float(r.Conveyance),
-			Discharge: Float(r.Discharge), MeanVelocity: Float(r.MeanVelocity),
-			Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
-			Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
-			Subsections: make([]jsonSub, len(r.Subs)),
-			Flags:       r.Flags,
-		}
-		if jr.Flags == nil {
-			jr.Flags = []string{}
-		}
-		for j, s := range r.Subs {
-			jr.Subsections[j] = jsonSub{
-				FromStation: Float(s.From), ToStation: Float(s.To), Region: s.Region.String(), N: Float(s.N),
-				Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
-				Conveyance: Float(s.Conveyance), Discharge: Float(s.Discharge), MeanVelocity: Float(s.Velocity),
-			}
-		}
-		rows[i] = jr
+	t := rep.Table
+	return writeJSONObject(w, []jsonField{
+		{key: "section", value: t.Name},
+		{key: "units", value: UnitNames(t.Units)},
+		{key: "slope", value: Float(t.Slope)},
+		{key: "rows", n: len(t.Rows), item: func(i int) any { return ratingJSONRow(t.Rows[i]) }},
+		{key: "gauge_datum", value: gaugeDatum(t)},
+		{key: "site", value: siteJSON(rep.Provenance.Site)},
+		{key: "warnings", value: nonNil(rep.Warnings)},
+		{key: "caution", value: rating.Caution},
+	})
+}
+
+// ratingJSONRow lays out one row of a rating table in JSON.
+func ratingJSONRow(r rating.Row) jsonRow {
+	jr := jsonRow{
+		Stage: Float(r.Stage), Depth: Float(r.Depth), Area: Float(r.Area),
+		WettedPerimeter: Float(r.WettedPerimeter), TopWidth: Float(r.TopWidth),
+		HydraulicRadius: Float(r.HydraulicRadius), Conveyance: Float(r.Conveyance),
+		Discharge: Float(r.Discharge), MeanVelocity: Float(r.MeanVelocity),
+		Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
+		Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
+		Subsections: make([]jsonSub, len(r.Subs)),
+		Flags:       nonNil(r.Flags),
 	}
-	if warnings == nil {
-		warnings = []string{}
+	for j, s := range r.Subs {
+		jr.Subsections[j] = jsonSub{
+			FromStation: Float(s.From), ToStation: Float(s.To), Region: s.Region.String(), N: Float(s.N),
+			Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
+			Conveyance: Float(s.Conveyance), Discharge: Float(s.Discharge), MeanVelocity: Float(s.Velocity),
+		}
 	}
-	out := struct {
-		Section  string            `json:"section"`
-		Units    map[string]string `json:"units"`
-		Slope    Float             `json:"slope"`
-		Rows     []jsonRow         `json:"rows"`
-		Datum    Float             `json:"gauge_datum"`
-		Site     *jsonSite         `json:"site"`
-		Warnings []string          `json:"warnings"`
-		Caution  string            `json:"caution"`
-	}{t.Name, UnitNames(t.Units), Float(t.Slope), rows, gaugeDatum(t), siteJSON(rep.Provenance.Site), warnings, rating.Caution}
-	return writeJSON(w, out)
+	return jr
 }
 
 // WriteRatingText writes a rating report as aligned columns for reading

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -20,6 +21,22 @@ const (
 	SheetSurvey      = "survey"
 	SheetPlots       = "plots"
 )
+
+// ErrWorkbookRows is the cause of a table too long for a workbook sheet.
+var ErrWorkbookRows = errors.New("too many rows for a workbook sheet")
+
+// CheckRatingWorkbook returns an error when a rating of stages stages and
+// subs subsections would not fit the sheets of a results workbook: the
+// rating sheet holds a row per stage, the subsections sheet a row per
+// stage and subsection. Commands check it before computing.
+func CheckRatingWorkbook(stages, subs int) error {
+	rows := stages * max(subs, 1)
+	if rows+1 > workbook.MaxRows {
+		return fmt.Errorf("%w: %d stages × %d subsections is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
+			ErrWorkbookRows, stages, subs, rows, workbook.MaxRows-1)
+	}
+	return nil
+}
 
 // WriteRatingWorkbook writes a results workbook to w. Sheets:
 //

@@ -428,6 +428,9 @@ func (s *SheetWriter) Row(values ...any) error {
 // lineHeight is the height of one line of text in a row, in points.
 const lineHeight = 15
 
+// MaxRows is the number of rows a sheet holds (the file format's limit).
+const MaxRows = 1_048_576
+
 // MaxRowHeight is the tallest row a sheet may have, in points (the file
 // format's limit); longer text is cut off in view, kept whole in the cell.
 const MaxRowHeight = 409
