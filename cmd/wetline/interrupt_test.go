@@ -3,10 +3,12 @@ package main
 import (
 	"context"
 	"errors"
+	"fmt"
 	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"sort"
 	"strings"
 	"syscall"
 	"testing"
@@ -14,22 +16,57 @@ import (
 )
 
 // helperEnv makes the test binary act as the wetline program (see
-// TestMain), with one extra command that starts writing its output and
-// then waits, so that a test can interrupt it mid-write.
+// TestMain), with extra commands that start writing their output and
+// then wait, so that a test can interrupt them mid-write.
 const helperEnv = "WETLINE_TEST_AS_PROGRAM"
+
+// stalled waits for the interrupt; the signal handler exits the program
+// first.
+func stalled(ctx context.Context) error {
+	<-ctx.Done()
+	time.Sleep(time.Minute)
+	return errors.New("not interrupted")
+}
+
+// testCommands are the program's commands and the stalling ones.
+func testCommands() map[string]command {
+	cmds := commandTable()
+	// stall FILE: writes part of FILE, then waits.
+	cmds["stall"] = command{"write part of a file, then wait", func(ctx context.Context, e *env, args []string) error {
+		return e.files.Write(args[0], func(w io.Writer) error {
+			io.WriteString(w, "stage,discharge\n1,2\n")
+			return stalled(ctx)
+		})
+	}}
+	// stall-folder DIR: stages a batch folder with one table, then waits.
+	cmds["stall-folder"] = command{"stage part of a batch folder, then wait", func(ctx context.Context, e *env, args []string) error {
+		d, err := e.files.Folder(args[0], "index.csv")
+		if err != nil {
+			return err
+		}
+		if err := d.Write("a.csv", func(w io.Writer) error { _, err := io.WriteString(w, "stage\n"); return err }); err != nil {
+			return err
+		}
+		fmt.Fprintln(e.stdout, "staged")
+		return stalled(ctx)
+	}}
+	// stall-temp: makes a file in the temporary folder, as the workbook
+	// library does for a large sheet, says where, then waits.
+	cmds["stall-temp"] = command{"make a temporary file, then wait", func(ctx context.Context, e *env, args []string) error {
+		f, err := os.CreateTemp("", "excelize-")
+		if err != nil {
+			return err
+		}
+		fmt.Fprintln(e.stdout, f.Name())
+		f.Close()
+		return stalled(ctx)
+	}}
+	return cmds
+}
 
 func TestMain(m *testing.M) {
 	if os.Getenv(helperEnv) != "" {
-		cmds := commandTable()
-		cmds["stall"] = command{"write part of a file, then wait", func(ctx context.Context, e *env, args []string) error {
-			return e.files.Write(args[0], func(w io.Writer) error {
-				io.WriteString(w, "stage,discharge\n1,2\n")
-				<-ctx.Done()
-				time.Sleep(time.Minute) // the handler exits the program first
-				return errors.New("not interrupted")
-			})
-		}}
-		os.Exit(mainWith(cmds))
+		os.Exit(mainWith(testCommands()))
 	}
 	code := m.Run()
 	if demoOnce.dir != "" {
@@ -38,68 +75,194 @@ func TestMain(m *testing.M) {
 	os.Exit(code)
 }
 
-// TestInterruptLeavesNoPartialFile sends SIGINT to the running program
-// while it writes: it exits with status 130, leaves no temporary file, and
-// an existing output keeps its content.
+// program starts the test binary as the wetline program.
+func startProgram(t *testing.T, args ...string) (*exec.Cmd, *strings.Builder, *lineReader) {
+	t.Helper()
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), helperEnv+"=1")
+	var stderr strings.Builder
+	cmd.Stderr = &stderr
+	out, err := cmd.StdoutPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	return cmd, &stderr, &lineReader{r: out}
+}
+
+// lineReader reads a child's standard output a line at a time.
+type lineReader struct {
+	r   io.Reader
+	buf []byte
+}
+
+func (l *lineReader) line(t *testing.T) string {
+	t.Helper()
+	b := make([]byte, 1)
+	for {
+		if i := strings.IndexByte(string(l.buf), '\n'); i >= 0 {
+			s := string(l.buf[:i])
+			l.buf = l.buf[i+1:]
+			return s
+		}
+		n, err := l.r.Read(b)
+		if err != nil {
+			t.Fatalf("the program said nothing: %v", err)
+		}
+		l.buf = append(l.buf, b[:n]...)
+	}
+}
+
+// waitFor polls until cond holds, failing after a while.
+func waitFor(t *testing.T, cmd *exec.Cmd, what string, cond func() bool) {
+	t.Helper()
+	deadline := time.Now().Add(20 * time.Second)
+	for !cond() {
+		if time.Now().After(deadline) {
+			cmd.Process.Kill()
+			t.Fatalf("the program never %s", what)
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+}
+
+// interrupt sends sig and checks the program exits with 128+sig saying it
+// was interrupted.
+func interrupt(t *testing.T, cmd *exec.Cmd, stderr *strings.Builder, sig syscall.Signal) {
+	t.Helper()
+	if err := cmd.Process.Signal(sig); err != nil {
+		t.Fatal(err)
+	}
+	err := cmd.Wait()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != 128+int(sig) {
+		t.Fatalf("%v: exit %v, want status %d; stderr %s", sig, err, 128+int(sig), stderr.String())
+	}
+	if !strings.Contains(stderr.String(), "interrupted") {
+		t.Errorf("stderr %q does not say it was interrupted", stderr.String())
+	}
+}
+
+// names lists a folder.
+func names(dir string) []string {
+	ents, _ := os.ReadDir(dir)
+	var out []string
+	for _, e := range ents {
+		out = append(out, e.Name())
+	}
+	sort.Strings(out)
+	return out
+}
+
+// Each of SIGINT, SIGTERM and SIGHUP sent while the program writes makes
+// it exit with 128 plus the signal's number, leaving no temporary file
+// and an existing output as it was.
 func TestInterruptLeavesNoPartialFile(t *testing.T) {
 	t.Parallel()
-	for _, existing := range []string{"", "old content\n"} {
-		dir := t.TempDir()
-		out := filepath.Join(dir, "rating.csv")
-		if existing != "" {
-			if err := os.WriteFile(out, []byte(existing), 0o644); err != nil {
-				t.Fatal(err)
+	for _, sig := range []syscall.Signal{syscall.SIGINT, syscall.SIGTERM, syscall.SIGHUP} {
+		for _, existing := range []string{"", "old content\n"} {
+			dir := t.TempDir()
+			out := filepath.Join(dir, "rating.csv")
+			if existing != "" {
+				if err := os.WriteFile(out, []byte(existing), 0o644); err != nil {
+					t.Fatal(err)
+				}
+			}
+			cmd, stderr, _ := startProgram(t, "stall", out)
+			before := len(names(dir))
+			waitFor(t, cmd, "started writing", func() bool { return len(names(dir)) > before })
+			interrupt(t, cmd, stderr, sig)
+			want := "[]"
+			if existing != "" {
+				want = "[rating.csv]"
+			}
+			if got := fmt.Sprint(names(dir)); got != want {
+				t.Errorf("%v: left behind %s, want %s", sig, got, want)
+			}
+			if existing != "" {
+				if b, _ := os.ReadFile(out); string(b) != existing {
+					t.Errorf("%v: existing output changed to %q", sig, b)
+				}
 			}
 		}
-		cmd := exec.Command(os.Args[0], "stall", out)
+	}
+}
+
+// A batch interrupted while it writes its folder leaves the earlier
+// output folder whole, with no staged folder or lock beside it; a second
+// batch into a folder being written is refused while the first runs.
+func TestInterruptedBatchKeepsOldFolder(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	in := batchInputs(t, "a", "b")
+	out := filepath.Join(dir, "ratings")
+	if _, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", out); code != 0 {
+		t.Fatal(errs)
+	}
+	old := fmt.Sprint(names(out))
+	cmd, stderr, stdout := startProgram(t, "stall-folder", out)
+	if got := stdout.line(t); got != "staged" {
+		t.Fatalf("program said %q", got)
+	}
+	// A second batch into the same folder while the first holds it.
+	_, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", out)
+	if code != 1 || !strings.Contains(errs, "another wetline run is writing this folder") {
+		t.Errorf("second batch: exit %d: %s", code, errs)
+	}
+	interrupt(t, cmd, stderr, syscall.SIGTERM)
+	if got := fmt.Sprint(names(out)); got != old {
+		t.Errorf("output folder holds %s after the interrupt, want %s", got, old)
+	}
+	if got := fmt.Sprint(names(dir)); got != "[ratings]" {
+		t.Errorf("left beside the folder: %s", got)
+	}
+}
+
+// The workbook library's own temporary files (made for a large sheet in
+// the temporary folder) go with an interrupted run: the program points
+// the temporary folder at a folder of its own and removes it.
+func TestInterruptRemovesLibraryTemporaryFiles(t *testing.T) {
+	t.Parallel()
+	cmd, stderr, stdout := startProgram(t, "stall-temp")
+	tmp := stdout.line(t)
+	if _, err := os.Stat(tmp); err != nil {
+		t.Fatalf("temporary file %s: %v", tmp, err)
+	}
+	if !strings.Contains(filepath.Dir(tmp), "wetline-") {
+		t.Errorf("temporary file %s is not in the run's own folder", tmp)
+	}
+	interrupt(t, cmd, stderr, syscall.SIGHUP)
+	if _, err := os.Stat(filepath.Dir(tmp)); !os.IsNotExist(err) {
+		t.Errorf("the run's temporary folder is still there: %v", err)
+	}
+}
+
+// A command whose standard output cannot be written (a full device) says
+// so and exits 1 instead of 0.
+func TestFullStandardOutput(t *testing.T) {
+	t.Parallel()
+	full, err := os.OpenFile("/dev/full", os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip("no /dev/full here:", err)
+	}
+	defer full.Close()
+	for _, args := range [][]string{
+		{"solve", "--shape", "rectangle:width=2", "--n", "0.015", "--discharge", "1", "--slope", "0.001"},
+		{"cowan", "--list"},
+		{"cowan", "--bed", "gravel"},
+		{"rate", demoSurveyPath, "--slope", "0.001"},
+	} {
+		cmd := exec.Command(os.Args[0], args...)
 		cmd.Env = append(os.Environ(), helperEnv+"=1")
+		cmd.Stdout = full
 		var stderr strings.Builder
 		cmd.Stderr = &stderr
-		if err := cmd.Start(); err != nil {
-			t.Fatal(err)
-		}
-		// Wait until the temporary file exists, then interrupt.
-		deadline := time.Now().Add(20 * time.Second)
-		before := 0
-		if existing != "" {
-			before = 1
-		}
-		for {
-			if ents, _ := os.ReadDir(dir); len(ents) > before {
-				break
-			}
-			if time.Now().After(deadline) {
-				cmd.Process.Kill()
-				t.Fatal("the program never started writing")
-			}
-			time.Sleep(10 * time.Millisecond)
-		}
-		if err := cmd.Process.Signal(syscall.SIGINT); err != nil {
-			t.Fatal(err)
-		}
-		err := cmd.Wait()
+		err := cmd.Run()
 		var ee *exec.ExitError
-		if !errors.As(err, &ee) || ee.ExitCode() != 130 {
-			t.Fatalf("exit %v, want status 130; stderr %s", err, stderr.String())
-		}
-		if !strings.Contains(stderr.String(), "interrupted") {
-			t.Errorf("stderr %q does not say it was interrupted", stderr.String())
-		}
-		ents, _ := os.ReadDir(dir)
-		var names []string
-		for _, e := range ents {
-			names = append(names, e.Name())
-		}
-		switch {
-		case existing == "" && len(names) != 0:
-			t.Errorf("left behind: %v", names)
-		case existing != "" && (len(names) != 1 || names[0] != "rating.csv"):
-			t.Errorf("left behind: %v", names)
-		}
-		if existing != "" {
-			if b, _ := os.ReadFile(out); string(b) != existing {
-				t.Errorf("existing output changed to %q", b)
-			}
+		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(stderr.String(), "no space") {
+			t.Errorf("%v to a full device: %v, stderr %q", args, err, stderr.String())
 		}
 	}
 }
