@@ -28,6 +28,17 @@ func FuzzParseSection(f *testing.F) {
 		"station,elevation\n0,1,5\n1,NaN\n",
 		"# comment\n\nstation,elevation,n\n0,1,\n1,0,0.04\n1,2,\n",
 		"station,elevation\n\"0\",\"1\n",
+		// Hostile or mistaken files: a header padded with 2000 commas, a
+		// column named twice, non-decimal numbers, a blank first n, an
+		// elevation beyond any ground, tabs, UTF-16, a workbook's bytes.
+		"station,elevation" + strings.Repeat(",", 2000) + "\n0,1\n1,0\n2,1\n",
+		"station,elevation,station\n0,1,2\n1,0,3\n",
+		"station,elevation\n0x1p3,1\n1_0,0\n",
+		"station,elevation,n\n0,1,\n1,0,0.04\n2,1,\n",
+		"station,elevation\n0,1e308\n1,0\n",
+		"station\televation\n0\t1\n1\t0\n",
+		"\xff\xfes\x00t\x00a\x00",
+		"PK\x03\x04\x14\x00\x00\x00",
 	} {
 		f.Add([]byte(s), false)
 	}

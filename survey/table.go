@@ -94,9 +94,6 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
 	}
-	if err := sniffText(data, path); err != nil {
-		return nil, err
-	}
 	return ParseCSV(bytes.NewReader(data), path)
 }
 
@@ -201,7 +198,9 @@ func (b *tableBuilder) row(rec []string, row int) error {
 	return nil
 }
 
-// ParseCSV reads a comma-separated table. Lines starting with '#' are
+// ParseCSV reads a comma-separated table of UTF-8 text (text that is not,
+// UTF-16, binary data, a workbook, a tab-separated table, is refused
+// saying what it is). Lines starting with '#' are
 // comments ("# key: value" lines above the header are kept in Meta), a
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
 // the cells under the header. A table beyond the limits (see Limits) is an
@@ -212,6 +211,9 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 		return nil, &ParseError{File: name, Err: err}
 	}
 	data = bytes.TrimPrefix(data, []byte("\ufeff"))
+	if err := sniffText(data, name); err != nil {
+		return nil, err
+	}
 	b := newTableBuilder(name, "")
 	b.t.Meta = csvMeta(data)
 	cr := csv.NewReader(bytes.NewReader(data))

@@ -1,0 +1,169 @@
+package survey
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+
+	"wetline/subdivide"
+)
+
+// Files that are not what they claim to be are refused saying what they
+// are, at once, with the file named.
+func TestHostileInputs(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name string, data []byte) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	book, err := os.ReadFile("testdata/fuzz/FuzzParseWorkbook/filled-section")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		data []byte
+		want error
+	}{
+		{"utf16.csv", []byte("\xff\xfes\x00t\x00a\x00t\x00i\x00o\x00n\x00"), ErrUTF16},
+		{"utf16-nobom.csv", []byte("s\x00t\x00a\x00t\x00i\x00o\x00n\x00,\x00e\x00"), ErrUTF16},
+		{"binary.csv", []byte("station,elevation\n\x00\x01\x02\x03\xfe"), ErrBinary},
+		{"tabs.csv", []byte("station\televation\n0\t1\n"), ErrTabs},
+		{"book.csv", append([]byte("PK\x03\x04"), book...), ErrWorkbookNamed},
+		{"dup.csv", []byte("station,elevation,Station\n0,1,2\n1,0,3\n"), ErrDuplicateColumn},
+		{"hex.csv", []byte("station,elevation\n0x1p3,1\n1,0\n"), ErrNotNumber},
+		{"firstn.csv", []byte("station,elevation,n\n0,1,\n1,0,0.04\n2,1,\n"), ErrFirstNBlank},
+		{"huge.csv", []byte("station,elevation\n0,1e308\n1,0\n"), ErrImplausible},
+		{"inf.csv", []byte("station,elevation\n0,1e999\n1,0\n"), subdivide.ErrNotFinite},
+	} {
+		path := write(c.name, c.data)
+		_, err := ReadSection(path, "", SectionOptions{})
+		if !errors.Is(err, c.want) || !strings.Contains(err.Error(), c.name) {
+			t.Errorf("%s: %v, want %v naming the file", c.name, err, c.want)
+		}
+	}
+}
+
+// A header padded with two thousand commas costs no more than the
+// columns used: rows keep only the cells under the named columns.
+func TestPaddedHeaderKeepsUsedColumns(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("station,elevation" + strings.Repeat(",", 2000) + "\n")
+	for i := range 1000 {
+		b.WriteString("1,2\n")
+		_ = i
+	}
+	tab, err := ParseCSV(strings.NewReader(b.String()), "wide.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(tab.Header) != 2 {
+		t.Errorf("header of %d columns, want the 2 named", len(tab.Header))
+	}
+	for _, r := range tab.Records {
+		if len(r.Cells) > 2 {
+			t.Fatalf("row %d holds %d cells", r.Row, len(r.Cells))
+		}
+	}
+}
+
+// Tables beyond the row limit are refused with the limit and how to
+// raise it.
+func TestRowLimit(t *testing.T) {
+	t.Setenv(EnvMaxRows, "100")
+	var b strings.Builder
+	b.WriteString("station,elevation\n")
+	for range 150 {
+		b.WriteString("1,2\n")
+	}
+	_, err := ParseCSV(strings.NewReader(b.String()), "long.csv")
+	if !errors.Is(err, ErrTooManyRows) || !strings.Contains(err.Error(), EnvMaxRows) || !strings.Contains(err.Error(), "100 rows") {
+		t.Errorf("long table: %v", err)
+	}
+}
+
+// Devices, pipes and folders are refused without reading them; a pipe
+// without a writer does not make the reader wait.
+func TestSpecialFilesRefused(t *testing.T) {
+	if runtime.GOOS == "windows" {
+		t.Skip("no devices or pipes")
+	}
+	dir := t.TempDir()
+	fifo := filepath.Join(dir, "pipe.csv")
+	if err := syscall.Mkfifo(fifo, 0o644); err != nil {
+		t.Skip("no named pipes:", err)
+	}
+	for _, p := range []string{"/dev/zero", "/dev/urandom", fifo, dir} {
+		done := make(chan error, 1)
+		go func() { _, err := ReadSection(p, "", SectionOptions{}); done <- err }()
+		select {
+		case err := <-done:
+			if !errors.Is(err, ErrNotRegularInput) {
+				t.Errorf("%s: %v, want ErrNotRegularInput", p, err)
+			}
+		case <-time.After(5 * time.Second):
+			t.Fatalf("%s: the reader waits", p)
+		}
+	}
+}
+
+// A file larger than the byte limit is refused before it is read.
+func TestByteLimit(t *testing.T) {
+	t.Setenv(EnvMaxBytes, "64")
+	p := filepath.Join(t.TempDir(), "big.csv")
+	if err := os.WriteFile(p, []byte("station,elevation\n"+strings.Repeat("1,2\n", 100)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ReadSection(p, "", SectionOptions{}); !errors.Is(err, ErrTooLarge) || !strings.Contains(err.Error(), EnvMaxBytes) {
+		t.Errorf("big file: %v", err)
+	}
+}
+
+// A workbook with a sheet whose rows are out of order, or whose first
+// sheet is hidden, is refused.
+func TestWorkbookAmbiguities(t *testing.T) {
+	for _, c := range []struct {
+		seed string
+		want error
+	}{
+		{"rows-out-of-order", ErrRowOrder},
+		{"hidden-first-sheet", ErrHiddenSheet},
+	} {
+		data, err := os.ReadFile("testdata/fuzz/FuzzParseWorkbook/" + c.seed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		raw := corpusBytes(t, data)
+		p := filepath.Join(t.TempDir(), "b.xlsx")
+		if err := os.WriteFile(p, raw, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := ReadTable(p, ""); !errors.Is(err, c.want) {
+			t.Errorf("%s: %v, want %v", c.seed, err, c.want)
+		}
+	}
+}
+
+// corpusBytes decodes a fuzz corpus file holding one []byte value.
+func corpusBytes(t *testing.T, data []byte) []byte {
+	t.Helper()
+	lines := strings.SplitN(string(data), "\n", 3)
+	if len(lines) < 2 || lines[0] != "go test fuzz v1" {
+		t.Fatal("not a corpus file")
+	}
+	lit := strings.TrimSuffix(strings.TrimPrefix(lines[1], "[]byte("), ")")
+	s, err := strconv.Unquote(lit)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []byte(s)
+}
