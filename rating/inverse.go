@@ -334,8 +334,19 @@ func (s solver) solve(f stageFunc, reached func(float64) (bool, error), what str
 	return roots, nil
 }
 
-// StageForArea returns the stage at which geometry g holds flow area a.
-// Area grows with stage, so there is one root.
+// StageForArea returns the stage (elevation, length unit) at which
+// geometry g holds flow area a > 0 (area unit), to DepthTolerance of its
+// depth. Area never falls as the stage rises, so there is one root; on
+// ground lying level exactly at the stage the area jumps, and the root is
+// the stage of the jump (Root.Jump). Errors: ErrTarget for a not positive
+// and finite, ErrNoRoot for an area the section (extended up to
+// MaxSearchDoublings times its depth, or to a conduit's crown) cannot
+// hold.
+//
+// References:
+//
+//	Chow, V.T. (1959), Open-Channel Hydraulics, McGraw-Hill, section 2-3
+//	(geometric elements of channel sections).
 func StageForArea(g subdivide.Geometry, a float64, opt Options) (Root, error) {
 	if err := checkTarget(a, "area"); err != nil {
 		return Root{}, err

@@ -53,8 +53,29 @@ type Solution struct {
 	Warnings []string
 }
 
-// Solve finds the normal stages (when opt.Slope > 0), the critical stages
-// and the least specific energy of discharge q in g.
+// Solve finds what a discharge q > 0 does in geometry g: every normal
+// stage at friction slope opt.Slope (when positive), with the hydraulics
+// and flow regime there, every critical stage with its energy
+// coefficient and specific energy, and the least specific energy; for a
+// closed conduit also its full-flow and peak part-full discharges.
+// Stages are elevations in the length unit of opt.Units, discharges in
+// its discharge unit, each stage to DepthTolerance of its depth.
+//
+//	normal:   K(h)·√S = q          (Manning's equation, subdivided conveyance)
+//	critical: α·q²·T / (g·A³) = 1   (Froude number with α equal to 1)
+//	energy:   E(h) = (h − z₀) + α·q²/(2g·A²)
+//
+// Several roots are reported with a warning (a conduit near full, a
+// compound section). Errors: ErrTarget for q not positive and finite,
+// ErrNoRoot when no stage of the section (extended up to
+// MaxSearchDoublings times its depth) carries q, with the conduit's peak
+// when q exceeds it, or the geometry's own errors.
+//
+// References:
+//
+//	Chow, V.T. (1959), Open-Channel Hydraulics, McGraw-Hill: sections 3-2
+//	(specific energy), 4-2 and eq. 4-4 (critical flow in a compound
+//	section), 6-4 (normal depth by Manning's equation).
 func Solve(g subdivide.Geometry, q float64, opt Options) (Solution, error) {
 	sol := Solution{Units: opt.Units, Slope: opt.Slope, Discharge: q, Composite: opt.Composite,
 		Bottom: g.Bottom(), Top: g.Top(), FullDischarge: math.NaN(), PeakStage: math.NaN(), PeakDischarge: math.NaN()}
