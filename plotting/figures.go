@@ -236,3 +236,11 @@ func sig3(v float64) string {
 	}
 	return fmt.Sprintf("%.3g", v)
 }
+
+// DrawPlan draws the plan figure of a projected coordinate survey, named
+// base-plan.png.
+func DrawPlan(in PlanPlot, base string) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	err := set.add("plan", "plan of the survey "+in.Section+" and its section line", func(w io.Writer) (Result, error) { return Plan(w, in) })
+	return set.figs, set.warnings, err
+}

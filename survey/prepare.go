@@ -38,6 +38,9 @@ type SectionRequest struct {
 	// nothing), with UnitsGiven true they must agree.
 	Units      rating.Units
 	UnitsGiven bool
+	// Coordinates say how a coordinate survey becomes stations (ignored
+	// for a survey by station).
+	Coordinates CoordinateOptions
 }
 
 // Prepared is a section ready for hydraulics.
@@ -74,7 +77,7 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if req.Shape != "" || req.Path == "" {
 		return prepareShape(req)
 	}
-	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil})
+	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates})
 	if err != nil {
 		return nil, err
 	}

@@ -31,6 +31,10 @@ type Survey struct {
 	Units UnitNote
 	// Site is the site metadata read above the table.
 	Site rating.Site
+	// Projection says how the stations were made when the survey gave
+	// eastings and northings (zero value, Line "", for a survey by
+	// station).
+	Projection Projection
 }
 
 // SectionOptions adjust how a survey is read. The zero value reads marks.
@@ -40,6 +44,9 @@ type SectionOptions struct {
 	// SurveysAnywhere lets a reach table name survey files outside its
 	// own folder (by default they must lie in it or below it).
 	SurveysAnywhere bool
+	// Coordinates say how a survey of eastings and northings becomes
+	// stations (see CoordinateOptions).
+	Coordinates CoordinateOptions
 }
 
 // HighN is the Manning's n above which a value is warned about: higher
@@ -99,7 +106,13 @@ var (
 )
 
 // SectionFromTable turns a table with station and elevation columns (and
-// optional n, mark and note columns) into a survey. Every bad cell is
+// optional n, mark and note columns) into a survey. A table with easting
+// and northing columns instead of station (x, y and z are accepted for
+// easting, northing and elevation) is a coordinate survey: its points are
+// projected onto the section line as opt.Coordinates say (see
+// CoordinateOptions), put in station order, and every other column is
+// kept; each point's distance off the line is in Survey.Projection, and
+// points farther off than the tolerance are warned about. Every bad cell is
 // reported, each naming its row and column: a blank, unreadable or
 // implausible station, elevation or n (see MaxCoordinate, MaxElevation,
 // MinN, MaxN), a station less than the one before, a blank n on the first
@@ -114,6 +127,11 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	}
 	if len(r.errs) > 0 {
 		return r.sv, r.errs.err()
+	}
+	if r.coords {
+		if err := r.project(opt.Coordinates); err != nil {
+			return r.sv, err
+		}
 	}
 	if err := r.shape(); err != nil {
 		return r.sv, err
@@ -140,6 +158,12 @@ type sectionReader struct {
 	ns             []float64 // n given on each row (NaN blank)
 	bankAt         []int     // indices of points marked bank
 	bankRows       []Record
+	// coords reports a coordinate survey, whose easting and northing
+	// columns are cx and cy and whose points' coordinates are east, north.
+	coords      bool
+	cx, cy      int
+	east, north []float64
+	records     []Record
 }
 
 // newSectionReader finds the columns and the units of a survey table.
@@ -147,13 +171,21 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	r := &sectionReader{t: t, sv: Survey{File: t.File, Sheet: t.Sheet, Site: t.Site()}}
 	r.sv.Section.Name = sectionName(t)
 	var err error
-	if r.cs, err = t.Require(ColStation); err != nil {
+	r.cs, r.cx, r.cy = t.Column(ColStation), -1, -1
+	if r.cs < 0 {
+		if cx, cy, ok := coordinateColumns(t); ok {
+			r.cx, r.cy, r.coords = cx, cy, true
+		}
+	}
+	if !r.coords && r.cs < 0 {
+		return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: ColStation,
+			Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey (found: %s)",
+				ErrMissingColumn, ColStation, ColEasting, ColNorthing, headerList(t.Header))}
+	}
+	if r.ce, err = t.Require(ColElevation, "z"); err != nil {
 		return r, err
 	}
-	if r.ce, err = t.Require(ColElevation); err != nil {
-		return r, err
-	}
-	if r.sv.Units, err = t.HeaderUnits(r.cs, r.ce); err != nil {
+	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
 		return r, err
 	}
 	r.cn = t.Column(ColN, "manning_n", "mannings_n")
@@ -186,7 +218,15 @@ func (r *sectionReader) number(rec Record, col int, what string, limit float64) 
 
 // point reads one surveyed point.
 func (r *sectionReader) point(rec Record) {
-	x, okx := r.number(rec, r.cs, "station", MaxCoordinate)
+	var x float64
+	okx := false
+	if r.coords {
+		e, _ := r.number(rec, r.cx, "easting", MaxCoordinate)
+		n, _ := r.number(rec, r.cy, "northing", MaxCoordinate)
+		r.east, r.north, r.records = append(r.east, e), append(r.north, n), append(r.records, rec)
+	} else {
+		x, okx = r.number(rec, r.cs, "station", MaxCoordinate)
+	}
 	z, _ := r.number(rec, r.ce, "elevation", MaxElevation)
 	n := math.NaN()
 	if r.cn >= 0 {
@@ -229,7 +269,11 @@ func (r *sectionReader) shape() error {
 		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: fmt.Errorf("%w, found %d", subdivide.ErrTooFewPoints, len(pts))}
 	}
 	if pts[len(pts)-1].Station == pts[0].Station {
-		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.Records[len(t.Records)-1].Row, Column: r.cs + 1, Name: t.Header[r.cs],
+		col := r.cs
+		if r.coords {
+			col = r.cx
+		}
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.Records[len(t.Records)-1].Row, Column: col + 1, Name: t.Header[col],
 			Err: subdivide.ErrZeroWidth}
 	}
 	return nil

@@ -39,6 +39,13 @@ func FuzzParseSection(f *testing.F) {
 		"station\televation\n0\t1\n1\t0\n",
 		"\xff\xfes\x00t\x00a\x00",
 		"PK\x03\x04\x14\x00\x00\x00",
+		// Coordinate surveys: pins, no pins, right to left, points on one
+		// spot, a fold back, x y z.
+		"easting,northing,elevation,n,mark\n10,20,5,0.04,left pin\n13,24,1,,bank\n16,28,1,,\n19,32,5,,right pin\n",
+		"easting,northing,elevation,n\n19,32,5,\n16,28,1,0.03\n13,24,1,\n10,20,5,\n",
+		"easting,northing,elevation\n1,1,5\n1,1,0\n1,1,5\n",
+		"x,y,z,n\n0,0,3,0.03\n5,0,0,\n2,0.1,0,\n9,0,3,\n",
+		"easting,northing,elevation,n,mark\n0,0,1,0.03,left pin\n1,0,0,,left pin\n2,0,1,,right pin\n",
 	} {
 		f.Add([]byte(s), false)
 	}

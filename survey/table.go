@@ -495,7 +495,7 @@ func SectionSheets(path string) ([]string, error) {
 }
 
 // hasSurveyHeader reports whether the first non-blank row of a sheet names
-// station and elevation columns.
+// station (or easting and northing) and elevation columns.
 func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 	rows, err := f.Rows(sheet)
 	if err != nil {
@@ -511,7 +511,8 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}
-		return t.Column(ColStation) >= 0 && t.Column(ColElevation) >= 0, nil
+		_, _, coords := coordinateColumns(t)
+		return (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0, nil
 	}
 	return false, rows.Error()
 }

@@ -41,6 +41,7 @@ func commandTable() map[string]command {
 		"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
 		"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
 		"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
+		"project":   {"turn a coordinate survey (easting, northing, elevation) into stations along its section line", runProject},
 	}
 }
 

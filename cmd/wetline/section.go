@@ -3,6 +3,7 @@ package main
 import (
 	"errors"
 	"fmt"
+	"math"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -20,7 +21,59 @@ type sectionFlags struct {
 	noExtend  bool
 	shape     string // a built shape spec instead of a survey file
 	composite string // composite roughness method
+	coords    coordFlags
 	fs        *flagSet
+}
+
+// coordFlags say how a coordinate survey becomes stations.
+type coordFlags struct {
+	line      numbers
+	azimuth   float64
+	tolerance float64
+}
+
+// register adds the flags; line is false for commands reading several
+// sections (one line cannot fit them all).
+func (cf *coordFlags) register(fs *flagSet, line bool) {
+	if line {
+		fs.Var(&cf.line, "line", "coordinate surveys: the section line E1,N1,E2,N2 from its left end (default: through the points marked left pin and right pin, else the principal axis of the points)")
+	}
+	fs.Float64Var(&cf.azimuth, "flow-azimuth", math.NaN(), "coordinate surveys: the direction the water flows, degrees clockwise from grid north, which tells the left bank (default: the pins, else the first point surveyed is the left end)")
+	fs.Float64Var(&cf.tolerance, "offset-tolerance", 0, "coordinate surveys: warn of points farther off the section line than this (default 0.5 m, 1.5 ft)")
+}
+
+// options checks the flags and returns the coordinate options.
+func (cf *coordFlags) options(fs *flagSet, u survey.UnitChoice) (survey.CoordinateOptions, error) {
+	opt := survey.CoordinateOptions{Feet: u.Given && u.Units == rating.US}
+	if err := fs.positive("offset-tolerance"); err != nil {
+		return opt, err
+	}
+	if err := fs.within(survey.MaxCoordinate, "offset-tolerance"); err != nil {
+		return opt, err
+	}
+	opt.OffsetTolerance = cf.tolerance
+	if fs.Changed("flow-azimuth") {
+		if !(cf.azimuth >= -360 && cf.azimuth <= 360) {
+			return opt, usagef("%s: --flow-azimuth %g: want degrees from -360 to 360", fs.Name(), cf.azimuth)
+		}
+		opt.FlowAzimuth, opt.FlowGiven = cf.azimuth, true
+	}
+	if fs.Changed("line") {
+		if len(cf.line) != 4 {
+			return opt, usagef("%s: --line: want four numbers E1,N1,E2,N2, got %d", fs.Name(), len(cf.line))
+		}
+		for _, v := range cf.line {
+			if math.Abs(v) > survey.MaxCoordinate {
+				return opt, usagef("%s: --line: %g is beyond ±%g: not a plausible coordinate", fs.Name(), v, float64(survey.MaxCoordinate))
+			}
+		}
+		if cf.line[0] == cf.line[2] && cf.line[1] == cf.line[3] {
+			return opt, usagef("%s: --line: the two ends are the same point", fs.Name())
+		}
+		opt.Given = true
+		copy(opt.Line[:], cf.line)
+	}
+	return opt, nil
 }
 
 func (sf *sectionFlags) register(fs *flagSet) {
@@ -34,6 +87,7 @@ func (sf *sectionFlags) register(fs *flagSet) {
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
 	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n), horton, pavlovskii or lotter")
+	sf.coords.register(fs, true)
 }
 
 // geometry returns the wetting options of the flags.
@@ -69,7 +123,11 @@ func (sf *sectionFlags) request(path string) (survey.SectionRequest, error) {
 	if err != nil {
 		return survey.SectionRequest{}, usageError{err: err}
 	}
-	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u.Units, UnitsGiven: u.Given}
+	co, err := sf.coords.options(sf.fs, u)
+	if err != nil {
+		return survey.SectionRequest{}, err
+	}
+	req := survey.SectionRequest{Path: path, Sheet: sf.sheet, Shape: sf.shape, Composite: c, Units: u.Units, UnitsGiven: u.Given, Coordinates: co}
 	if len(sf.n) > 0 {
 		req.N = sf.n
 	}

@@ -31,6 +31,7 @@ type slopeAreaFlags struct {
 	allPools           bool
 	noExtend           bool
 	anywhere           bool
+	coords             coordFlags
 	format, output     string
 	plots, site        string
 }
@@ -53,6 +54,7 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json or xlsx (a results workbook with the inputs, checks, uncertainty and figures; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.BoolVar(&f.anywhere, "surveys-anywhere", false, "let the reach table name survey files outside its own folder")
+	f.coords.register(fs, false)
 	for _, name := range []string{"mark-spread", "mark-sd"} {
 		fs.Lookup(name).DefValue = "" // the unit's default, stated in the usage text
 	}
@@ -127,7 +129,15 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	path := fs.Arg(0)
-	rep, err := estimate(path, f.sheet, opt, survey.SectionOptions{SurveysAnywhere: f.anywhere}, fs.Changed("units"))
+	u, err := unitChoice(f.units, fs.Changed("units"))
+	if err != nil {
+		return err
+	}
+	co, err := f.coords.options(fs, u)
+	if err != nil {
+		return err
+	}
+	rep, err := estimate(path, f.sheet, opt, survey.SectionOptions{SurveysAnywhere: f.anywhere, Coordinates: co}, fs.Changed("units"))
 	if err != nil {
 		return err
 	}

@@ -58,13 +58,26 @@ func writeRecord(w *bufio.Writer, rec []string) {
 // Float is a float64 that encodes NaN and ±Inf as JSON null.
 type Float float64
 
-// MarshalJSON writes null for undefined values.
+// MarshalJSON writes null for undefined values, and a number as
+// encoding/json does: the shortest decimal that reads back to it, without
+// an exponent from 1e-6 up to 1e21 (a northing of 5210040.12 stays
+// 5210040.12), and 0 for negative zero.
 func (f Float) MarshalJSON() ([]byte, error) {
 	v := float64(f)
-	if math.IsNaN(v) || math.IsInf(v, 0) {
+	switch a := math.Abs(v); {
+	case math.IsNaN(v) || math.IsInf(v, 0):
 		return []byte("null"), nil
+	case v == 0:
+		return []byte("0"), nil
+	case a < 1e-6 || a >= 1e21:
+		b := strconv.AppendFloat(nil, v, 'e', -1, 64)
+		// 1e-07 as 1e-7, as encoding/json writes it.
+		if n := len(b); n >= 4 && b[n-4] == 'e' && b[n-3] == '-' && b[n-2] == '0' {
+			b = append(b[:n-2], b[n-1])
+		}
+		return b, nil
 	}
-	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
+	return strconv.AppendFloat(nil, v, 'f', -1, 64), nil
 }
 
 // UnitNames lists the unit of each quantity for a report header.

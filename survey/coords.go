@@ -1,0 +1,451 @@
+package survey
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strings"
+
+	"gonum.org/v1/gonum/mat"
+
+	"wetline/rating"
+	"wetline/subdivide"
+)
+
+// Column names of a coordinate survey (x, y, z are accepted too).
+const (
+	ColEasting  = "easting"
+	ColNorthing = "northing"
+	// MarkLeftPin and MarkRightPin mark the end pins of the section line,
+	// left and right looking downstream.
+	MarkLeftPin  = "left pin"
+	MarkRightPin = "right pin"
+)
+
+// Ways the left end of a coordinate survey was told apart from the right.
+const (
+	LeftFromPins    = "the pins marked left pin and right pin"
+	LeftFromFlow    = "the flow direction given"
+	LeftFromOrder   = "the order of the survey (its first point is the left end)"
+	LineFromPins    = "the line through the two end pins"
+	LineGiven       = "the line given"
+	LineFromPrinAx  = "the principal axis of the points (total least squares)"
+	DefaultOffsetSI = 0.5 // m
+	DefaultOffsetUS = 1.5 // ft
+)
+
+// CoordinateOptions say how a survey of eastings and northings is turned
+// into stations. The zero value takes the line through the end pins, else
+// the principal axis, and left from the pins, else from the survey order.
+type CoordinateOptions struct {
+	// Line, when Given, is the section line through (E1, N1) and (E2, N2)
+	// (length unit), E1, N1 the left end.
+	Line  [4]float64
+	Given bool
+	// FlowAzimuth, when FlowGiven, is the direction the water flows, in
+	// degrees clockwise from grid north; left is then the bank on the left
+	// looking that way.
+	FlowAzimuth float64
+	FlowGiven   bool
+	// OffsetTolerance is the distance off the line (length unit) above
+	// which a point is warned about; zero means DefaultOffsetSI (or US when
+	// Feet is set).
+	OffsetTolerance float64
+	Feet            bool
+}
+
+// Projection says how a coordinate survey became stations.
+type Projection struct {
+	// Line and Left name the methods used (the Line... and LeftFrom...
+	// constants).
+	Line, Left string
+	// Origin is the left end (easting, northing) stations count from, and
+	// Azimuth the direction of increasing station, degrees from north.
+	OriginE, OriginN, Azimuth float64
+	// Offsets holds each point's signed distance off the line (length
+	// unit; positive downstream of it when the flow direction is known,
+	// else to the right of increasing station).
+	Offsets []float64
+	// MaxOffset is the largest distance off the line; Tolerance the one
+	// warned above.
+	MaxOffset, Tolerance float64
+	// Reversed reports a survey taken right to left, whose points were put
+	// in station order.
+	Reversed bool
+	// Easting and Northing are the points' coordinates, in station order
+	// as Offsets are.
+	Easting, Northing []float64
+	// PinsDisagree reports a flow direction given that puts the pin
+	// marked left pin on the right bank.
+	PinsDisagree bool
+}
+
+// Causes of a coordinate survey that cannot be projected, for errors.Is.
+var (
+	ErrFoldBack   = errors.New("the point folds back along the section line: stations must run one way")
+	ErrPins       = errors.New("mark exactly one left pin and one right pin")
+	ErrLineLength = errors.New("the section line has no length")
+	ErrFlowAlong  = errors.New("the flow direction runs along the section line, so it cannot tell left from right")
+)
+
+// coordinateColumns finds the easting and northing columns (or x, y).
+func coordinateColumns(t *Table) (ce, cn int, ok bool) {
+	ce, cn = t.Column(ColEasting, "x"), t.Column(ColNorthing, "y")
+	return ce, cn, ce >= 0 && cn >= 0
+}
+
+// projectPoints turns eastings and northings into stations along the
+// section line. rows are the points' records, for positions. It returns
+// the stations in survey order (reversed order when Reversed) and the
+// permutation applied.
+func projectPoints(t *Table, rows []Record, e, n []float64, marks []string, opt CoordinateOptions) ([]float64, []int, Projection, error) {
+	var pr Projection
+	x0, y0, dx, dy, err := sectionLine(t, rows, e, n, marks, opt, &pr)
+	if err != nil {
+		return nil, nil, pr, err
+	}
+	if err := orient(t, rows, e, n, marks, opt, &dx, &dy, &pr); err != nil {
+		return nil, nil, pr, err
+	}
+	st := make([]float64, len(e))
+	pr.Offsets = make([]float64, len(e))
+	lo := math.Inf(1)
+	for i := range e {
+		u, v := e[i]-x0, n[i]-y0
+		st[i] = u*dx + v*dy
+		pr.Offsets[i] = u*dy - v*dx // to the right of increasing station
+		lo = math.Min(lo, st[i])
+		pr.MaxOffset = math.Max(pr.MaxOffset, math.Abs(pr.Offsets[i]))
+	}
+	if pr.Line == LineGiven {
+		lo = 0 // stations count from the given left end
+	}
+	for i := range st {
+		st[i] -= lo
+	}
+	pr.OriginE, pr.OriginN = x0+lo*dx, y0+lo*dy
+	pr.Azimuth = math.Mod(math.Atan2(dx, dy)*180/math.Pi+360, 360)
+	order, err := stationOrder(t, rows, st, &pr)
+	return st, order, pr, err
+}
+
+// sectionLine returns a point of the line and its unit direction: the
+// line given, through the pins, or the principal axis of the points.
+func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt CoordinateOptions, pr *Projection) (x0, y0, dx, dy float64, err error) {
+	switch l, r, nl, nr := pins(marks); {
+	case opt.Given:
+		x0, y0 = opt.Line[0], opt.Line[1]
+		dx, dy = opt.Line[2]-opt.Line[0], opt.Line[3]-opt.Line[1]
+		pr.Line = LineGiven
+	case nl == 1 && nr == 1:
+		x0, y0 = e[l], n[l]
+		dx, dy = e[r]-e[l], n[r]-n[l]
+		pr.Line = LineFromPins
+	case nl+nr > 0:
+		i := r
+		if nl > 0 {
+			i = l
+		}
+		return 0, 0, 0, 0, t.At(rows[i], t.Column(ColMark), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
+	default:
+		x0, y0, dx, dy = principalAxis(e, n)
+		pr.Line = LineFromPrinAx
+	}
+	length := math.Hypot(dx, dy)
+	if !(length > 0) {
+		return 0, 0, 0, 0, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrLineLength}
+	}
+	return x0, y0, dx / length, dy / length, nil
+}
+
+// pins finds the points marked left pin and right pin.
+func pins(marks []string) (left, right, nl, nr int) {
+	for i, m := range marks {
+		switch strings.ToLower(strings.Join(strings.Fields(m), " ")) {
+		case MarkLeftPin:
+			left, nl = i, nl+1
+		case MarkRightPin:
+			right, nr = i, nr+1
+		}
+	}
+	return left, right, nl, nr
+}
+
+// principalAxis returns the centroid of the points and the direction of
+// their greatest spread: the line of total least squares, the eigenvector
+// of the largest eigenvalue of the points' covariance.
+//
+// References:
+//
+//	Golub, G.H., and Van Loan, C.F. (1980), An analysis of the total least
+//	squares problem, SIAM J. Numer. Anal. 17(6), 883–893.
+func principalAxis(e, n []float64) (x0, y0, dx, dy float64) {
+	for i := range e {
+		x0 += e[i]
+		y0 += n[i]
+	}
+	x0 /= float64(len(e))
+	y0 /= float64(len(e))
+	var sxx, sxy, syy float64
+	for i := range e {
+		u, v := e[i]-x0, n[i]-y0
+		sxx += u * u
+		sxy += u * v
+		syy += v * v
+	}
+	var eig mat.EigenSym
+	if !eig.Factorize(mat.NewSymDense(2, []float64{sxx, sxy, sxy, syy}), true) {
+		return x0, y0, 1, 0
+	}
+	var vec mat.Dense
+	eig.VectorsTo(&vec)
+	vals := eig.Values(nil)
+	k := 1
+	if vals[0] > vals[1] {
+		k = 0
+	}
+	return x0, y0, vec.At(0, k), vec.At(1, k)
+}
+
+// orient turns the line's direction to run from left to right looking
+// downstream, by the flow direction, the pins, or the survey order.
+func orient(t *Table, rows []Record, e, n []float64, marks []string, opt CoordinateOptions, dx, dy *float64, pr *Projection) error {
+	flip := func(ok bool) {
+		if !ok {
+			*dx, *dy = -*dx, -*dy
+		}
+	}
+	l, r, nl, nr := pins(marks)
+	switch {
+	case opt.FlowGiven:
+		th := opt.FlowAzimuth * math.Pi / 180
+		// Right bank looking downstream: the flow direction turned a
+		// quarter clockwise, (cos θ, −sin θ) in (east, north).
+		rx, ry := math.Cos(th), -math.Sin(th)
+		dot := *dx*rx + *dy*ry
+		if math.Abs(dot) < flowAlongTolerance {
+			return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrFlowAlong}
+		}
+		flip(dot > 0)
+		pr.Left = LeftFromFlow
+		if nl == 1 && nr == 1 && (e[r]-e[l])**dx+(n[r]-n[l])**dy < 0 {
+			pr.PinsDisagree = true
+		}
+	case nl == 1 && nr == 1, opt.Given:
+		if nl == 1 && nr == 1 {
+			flip((e[r]-e[l])**dx+(n[r]-n[l])**dy > 0)
+			pr.Left = LeftFromPins
+		} else {
+			pr.Left = "the line given (its first point is the left end)"
+		}
+	default:
+		last := len(e) - 1
+		flip((e[last]-e[0])**dx+(n[last]-n[0])**dy > 0)
+		pr.Left = LeftFromOrder
+	}
+	return nil
+}
+
+// flowAlongTolerance is the cosine between the flow direction and the
+// right bank's direction below which they are taken to be at right
+// angles (the flow runs along the line: about 3°).
+const flowAlongTolerance = 0.05
+
+// stationOrder checks the stations run one way in survey order: rising,
+// or falling (a survey taken right to left, whose order is then
+// reversed). A point that folds back is an error at its row.
+func stationOrder(t *Table, rows []Record, st []float64, pr *Projection) ([]int, error) {
+	order := make([]int, len(st))
+	for i := range order {
+		order[i] = i
+	}
+	if len(st) > 1 && st[len(st)-1] < st[0] {
+		pr.Reversed = true
+		for i := range order {
+			order[i] = len(st) - 1 - i
+		}
+	}
+	for k := 1; k < len(order); k++ {
+		if st[order[k]] < st[order[k-1]] {
+			ce, _, _ := coordinateColumns(t)
+			return nil, t.At(rows[order[k]], ce, fmt.Errorf("%w (station %.3f after %.3f)", ErrFoldBack, st[order[k]], st[order[k-1]]))
+		}
+	}
+	return order, nil
+}
+
+// maxOffsetWarnings bounds how many points off the line are warned about
+// one by one.
+const maxOffsetWarnings = 10
+
+// project turns the coordinate survey read into stations, puts its points
+// in station order and records the projection.
+func (r *sectionReader) project(opt CoordinateOptions) error {
+	if len(r.east) < 2 {
+		return nil // shape reports too few points
+	}
+	st, order, pr, err := projectPoints(r.t, r.records, r.east, r.north, r.sv.Labels, opt)
+	if err != nil {
+		return err
+	}
+	pr.Tolerance = opt.OffsetTolerance
+	if !(pr.Tolerance > 0) {
+		pr.Tolerance = DefaultOffsetSI
+		if opt.Feet || (r.sv.Units.Found && r.sv.Units.Units == rating.US) {
+			pr.Tolerance = DefaultOffsetUS
+		}
+	}
+	if pr.Reversed && r.cn >= 0 {
+		if err := r.reverseN(); err != nil {
+			return err
+		}
+	}
+	// Put every per-point column in station order.
+	n := len(order)
+	sv := &r.sv
+	pts, ns, rows, labels, notes := make([]subdivide.Point, n), make([]float64, n), make([]int, n), make([]string, n), make([]string, n)
+	pr.Easting, pr.Northing = make([]float64, n), make([]float64, n)
+	offsets, recs := make([]float64, n), make([]Record, n)
+	where := make([]int, n) // where[i] is the new index of survey point i
+	for k, i := range order {
+		pts[k] = subdivide.Point{Station: st[i], Elevation: sv.Section.Points[i].Elevation}
+		ns[k], rows[k], labels[k], notes[k] = r.ns[i], sv.Rows[i], sv.Labels[i], sv.Notes[i]
+		pr.Easting[k], pr.Northing[k], offsets[k], recs[k] = r.east[i], r.north[i], pr.Offsets[i], r.records[i]
+		where[i] = k
+	}
+	pr.Offsets = offsets
+	sv.Section.Points, r.ns, sv.Rows, sv.Labels, sv.Notes = pts, ns, rows, labels, notes
+	for j := range r.bankAt {
+		r.bankAt[j] = where[r.bankAt[j]]
+	}
+	if len(r.bankAt) == 2 && r.bankAt[0] > r.bankAt[1] {
+		r.bankAt[0], r.bankAt[1] = r.bankAt[1], r.bankAt[0]
+		r.bankRows[0], r.bankRows[1] = r.bankRows[1], r.bankRows[0]
+	}
+	sv.Projection = pr
+	r.offsetWarnings(recs)
+	return nil
+}
+
+// reverseN turns the n column of a survey taken right to left into n of
+// the segments in station order: n on a point applies to the ground from
+// it to the next point surveyed, so the values are carried down the
+// survey order first, then each segment's n is moved to its left point.
+func (r *sectionReader) reverseN() error {
+	m := len(r.ns)
+	empty := true
+	for _, v := range r.ns {
+		empty = empty && math.IsNaN(v)
+	}
+	if empty {
+		return nil // roughness reports the empty column
+	}
+	if math.IsNaN(r.ns[0]) {
+		return r.t.At(r.records[0], r.cn, ErrFirstNBlank)
+	}
+	seg := make([]float64, m) // seg[i]: n of the segment from survey point i to i+1
+	cur := r.ns[0]
+	for i := 0; i < m-1; i++ {
+		if !math.IsNaN(r.ns[i]) {
+			cur = r.ns[i]
+		}
+		seg[i] = cur
+	}
+	// After reversal, survey point i is station point m−1−i and the
+	// segment from survey point i to i+1 runs from station point m−2−i.
+	// Stored in survey order, the n of station point k is seg[m−2−k], so
+	// survey point i (k = m−1−i) takes seg[i−1].
+	ns := make([]float64, m)
+	ns[0] = math.NaN() // the last point surveyed starts no segment
+	for i := 1; i < m; i++ {
+		ns[i] = seg[i-1]
+	}
+	r.ns = ns
+	return nil
+}
+
+// offsetWarnings states how the stations were made and warns of each
+// point farther off the line than the tolerance.
+func (r *sectionReader) offsetWarnings(recs []Record) {
+	pr, t := r.sv.Projection, r.t
+	unit := ""
+	if r.sv.Units.Found {
+		unit = " " + r.sv.Units.Units.Length()
+	}
+	far := 0
+	var worst int
+	for k, d := range pr.Offsets {
+		if math.Abs(d) > math.Abs(pr.Offsets[worst]) {
+			worst = k
+		}
+		if math.Abs(d) <= pr.Tolerance {
+			continue
+		}
+		far++
+		if far <= maxOffsetWarnings {
+			r.sv.Warnings = append(r.sv.Warnings, t.At(recs[k], r.cx, fmt.Errorf(
+				"the point lies %.3g%s off the section line, more than the tolerance %g%s: check it belongs to this section", math.Abs(d), unit, pr.Tolerance, unit)).Error())
+		}
+	}
+	if far > maxOffsetWarnings {
+		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: %d more points lie off the section line by more than %g%s", where(t, t.HeaderRow), far-maxOffsetWarnings, pr.Tolerance, unit))
+	}
+	if pr.PinsDisagree {
+		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: the flow direction given puts the point marked %s on the right bank: the left bank was taken from the flow direction; check the pins' names and the azimuth",
+			where(t, t.HeaderRow), MarkLeftPin))
+	}
+	r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf(
+		"%s: stations were projected from eastings and northings onto %s, left bank from %s; the farthest point lies %.3g%s off the line (row %d)%s",
+		where(t, t.HeaderRow), pr.Line, pr.Left, math.Abs(pr.Offsets[worst]), unit, r.sv.Rows[worst], reversedNote(pr.Reversed)))
+}
+
+func reversedNote(rev bool) string {
+	if rev {
+		return "; the survey ran right to left and was put in station order"
+	}
+	return ""
+}
+
+// ProjectionReport is a coordinate survey turned into stations, for a
+// crew to check: the survey with its projection, the unit system, the
+// warnings and the figures.
+type ProjectionReport struct {
+	Provenance rating.Provenance
+	// Survey is the survey in station order; Survey.Projection says how.
+	Survey Survey
+	// Units is the unit system of the survey's lengths.
+	Units rating.Units
+	// Warnings are the survey's (each point far off the line, the method
+	// used).
+	Warnings []string
+	// Figures are the pictures of the report (a plan of the points and the
+	// line), drawn by the caller.
+	Figures []rating.Figure
+}
+
+// ErrNotCoordinates is the cause of an error projecting a survey that
+// already gives stations.
+var ErrNotCoordinates = errors.New("the survey gives stations, not eastings and northings: there is nothing to project")
+
+// Project reads the coordinate survey at path (sheet "" for the first
+// of a workbook) and projects it onto its section line as opt says. The
+// unit system is u's, which the survey's headers must not contradict when
+// u.Given. Errors are those of ReadSection, ErrUnitsDisagree, and
+// ErrNotCoordinates for a survey by station.
+func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (ProjectionReport, error) {
+	sv, err := ReadSection(path, sheet, SectionOptions{Coordinates: opt})
+	if err != nil {
+		return ProjectionReport{}, err
+	}
+	if sv.Projection.Line == "" {
+		return ProjectionReport{}, fmt.Errorf("%s: %w", Position(path, sheet), ErrNotCoordinates)
+	}
+	units, err := sv.Units.Resolve(u.Units, u.Given)
+	if err != nil {
+		return ProjectionReport{}, err
+	}
+	return ProjectionReport{
+		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site},
+		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
+	}, nil
+}
