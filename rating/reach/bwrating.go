@@ -104,6 +104,11 @@ type MarkDeparture struct {
 	// Departure is WaterSurface − Mark; LeftDeparture and RightDeparture
 	// those from each mark (NaN where missing).
 	Departure, LeftDeparture, RightDeparture float64
+	// Band is the elevation band of the marks' quality rating
+	// (rating.Quality.MarkSD; NaN when unrated, length unit); Outside
+	// reports a departure larger than it.
+	Band    float64
+	Outside bool
 }
 
 // VerifyBackwater computes the profile of discharge q through the reach
@@ -112,6 +117,9 @@ type MarkDeparture struct {
 // verified when the marks of a flood of known discharge lie on its
 // computed profile within their uncertainty (Davidian, 1984, USGS TWRI
 // 3-A15, verified reaches).
+//
+// Each departure is set against the band of the section's mark quality
+// (Section.Quality; rating.Quality.MarkSD), where rated.
 //
 // Errors are ComputeBackwater's, or ErrNoMarks when no section has a mark.
 func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions) (Verification, error) {
@@ -142,6 +150,11 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 		}
 		if finite(s.Right) {
 			d.RightDeparture = ws - s.Right
+		}
+		d.Band = math.NaN()
+		if band, ok := s.Quality.MarkSD(opt.Units); ok {
+			d.Band = band
+			d.Outside = math.Abs(d.Departure) > band*(1+MarkSpreadEpsilon)
 		}
 		v.Marks = append(v.Marks, d)
 		sum += d.Departure
