@@ -20,6 +20,9 @@ type BackwaterReport struct {
 	Name string
 	// Sections are the reach's sections as given, upstream first.
 	Sections []Section
+	// BoundarySource says where a StageRating boundary was read (a file),
+	// for reports; "" when given in code.
+	BoundarySource string
 	// Result holds the profiles and the rating reads.
 	Result Backwater
 	// Table is Result.Rating as a rating table (BackwaterRating.Table):
@@ -87,8 +90,8 @@ func StepBackwater(secs []Section, qs []float64, b Boundary, opt BackwaterReport
 	}
 	rep.Verification = &v
 	for _, w := range v.Warnings {
-		if !slices.Contains(rep.Warnings, w) && !slices.Contains(res.Warnings, w) {
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf("verification at %g %s: %s", v.Discharge, opt.Backwater.Units.Discharge(), w))
+		if !slices.Contains(rep.Warnings, w) {
+			rep.Warnings = append(rep.Warnings, "verification: "+w)
 		}
 	}
 	if w := outsideWarning(v, opt.Backwater.Units); w != "" {
