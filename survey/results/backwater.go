@@ -278,24 +278,12 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 }
 
 // BackwaterBoundaryWords describes the downstream boundary of a report
-// with its units, and where a boundary rating was read.
+// with its units (reach.Boundary.Words), and where a boundary rating was
+// read.
 func BackwaterBoundaryWords(rep reach.BackwaterReport) string {
-	b := rep.Result.Boundary
-	u := rep.Result.Units
-	var s string
-	switch b.Kind {
-	case reach.KnownStage:
-		s = fmt.Sprintf("stage %s %s", FormatLength(b.Stage), u.Length())
-	case reach.StageRating:
-		s = "stage–discharge rating"
-		if n := len(b.Rating); n > 0 {
-			s += fmt.Sprintf(" of %d points, %s to %s %s", n, sig(b.Rating[0].Discharge, 4), sig(b.Rating[n-1].Discharge, 4), u.Discharge())
-		}
-		if rep.BoundarySource != "" {
-			s += ", read from " + rep.BoundarySource
-		}
-	default:
-		s = b.String()
+	s := rep.Result.Boundary.Words(rep.Result.Units)
+	if rep.BoundarySource != "" {
+		s += ", read from " + rep.BoundarySource
 	}
 	return s
 }
