@@ -263,7 +263,7 @@ func addProfiles(pl *plot.Plot, leg *legendLabels, profiles []ProfileLine, un un
 		if sc, err := plotter.NewScatter(crit); err == nil {
 			sc.GlyphStyle = draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}}
 			pl.Add(sc)
-			leg.add("critical depth (no subcritical stage)", sc)
+			leg.add("stage at critical depth", sc)
 		}
 	}
 	return warnings
@@ -332,6 +332,8 @@ type RatingComparison struct {
 	// still depend on the boundary, say).
 	Marked      []RatingPoint
 	MarkedLabel string
+	// What ends the title ("" gives "ratings compared").
+	What string
 	// Notes are extra lines at the foot; Caution the last ("" gives
 	// DefaultBackwaterCaution).
 	Notes   []string
@@ -387,9 +389,10 @@ func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
 	if p.X.Min > 0 {
 		p.X.Min = 0
 	}
+	p.Y.Max += 0.03 * (p.Y.Max - p.Y.Min) // the top point clear of the frame
 	p.Legend.Top, p.Legend.Left = true, true
 	p.Legend.XOffs, p.Legend.YOffs = vg.Points(8), -vg.Points(6)
-	fig := figure{title: titleOf(r.Site, r.Section, "ratings compared"), subtitle: r.Subtitle,
+	fig := figure{title: titleOf(r.Site, r.Section, orDefault(r.What, "ratings compared")), subtitle: r.Subtitle,
 		foot: append(append([]string(nil), r.Notes...), orDefault(r.Caution, DefaultBackwaterCaution))}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {
 		p.Draw(c)

@@ -326,5 +326,8 @@ func backwaterComparison(in BackwaterFigures) RatingComparison {
 		}
 	}
 	rc.Curves = append([]Curve{c}, in.Compare...)
+	if len(in.Compare) == 0 {
+		rc.What = "step-backwater rating"
+	}
 	return rc
 }

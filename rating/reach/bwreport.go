@@ -81,6 +81,7 @@ func StepBackwater(secs []Section, qs []float64, b Boundary, opt BackwaterReport
 	if rep.Table, err = res.Rating.Table(); err != nil {
 		return rep, fmt.Errorf("rating at %s: %w", res.Rating.Section, err)
 	}
+	rep.Warnings = append(rep.Warnings, pondedWarnings(rep.Table, res.Rating)...)
 	if opt.Verify == 0 {
 		return rep, nil
 	}
@@ -114,4 +115,21 @@ func outsideWarning(v Verification, u rating.Units) string {
 	}
 	return fmt.Sprintf("at %g %s the computed profile misses the marks by more than their quality band at %d section(s): %s; "+
 		"review n, the boundary and the marks before the reach is trusted", v.Discharge, u.Discharge(), len(ids), strings.Join(ids, ", "))
+}
+
+// pondedWarnings words the water left out of the flow at the rating
+// section as standing in pockets, as a rating table of rate does.
+func pondedWarnings(t rating.Table, rt BackwaterRating) []string {
+	stages, ponded := 0, 0.0
+	for _, r := range t.Rows {
+		if r.PondedPools > 0 {
+			stages++
+			ponded = math.Max(ponded, r.PondedArea)
+		}
+	}
+	var out []string
+	for _, w := range rating.PoolWarnings(0, stages, ponded, rt.GeometryOptions, rt.Units) {
+		out = append(out, "section "+rt.Section+": "+w)
+	}
+	return out
 }
