@@ -286,7 +286,11 @@ func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 		return nil, nil, err
 	}
 	rc := backwaterComparison(in)
-	if err := set.add("rating", "rating at the rating section from the profiles, with the band of the two boundary stages, beside the ratings compared", func(w io.Writer) (Result, error) {
+	caption := "step-backwater rating at " + r.Rating.Section + ", with the band between the profiles from the two boundary stages"
+	if len(in.Compare) > 0 {
+		caption += ", beside the ratings compared"
+	}
+	if err := set.add("rating", caption, func(w io.Writer) (Result, error) {
 		return CompareRatings(w, rc)
 	}); err != nil {
 		return nil, nil, err
