@@ -306,7 +306,7 @@ func TestBackwaterPlotsAndWorkbook(t *testing.T) {
 func TestDemoWritesBackwater(t *testing.T) {
 	t.Parallel()
 	dir, out := demoOutput(t)
-	for _, want := range []string{"tallow-backwater.txt", "tallow-backwater-rating.png", "from the uniform-flow rating", "9 February marks"} {
+	for _, want := range []string{"tallow-backwater.txt", "tallow-backwater-rating.png", "from uniform flow at slope", "9 February marks"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("demo output lacks %q", want)
 		}

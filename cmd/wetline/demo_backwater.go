@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"sort"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -69,7 +68,11 @@ func (d *demo) backwater() error {
 	if err := d.figures(figs); err != nil {
 		return err
 	}
-	d.list = append(d.list, "  "+uniformDeparture(rep, uniform.Table))
+	dep, err := uniformDeparture(rep, demoSlope)
+	if err != nil {
+		return err
+	}
+	d.list = append(d.list, "  "+dep)
 	if v := rep.Verification; v != nil {
 		d.list = append(d.list, fmt.Sprintf("  the 9 February marks (%g m3/s) lie within %.3f m of the computed profile (mean departure %+.3f m)",
 			v.Discharge, math.Abs(v.MaxDeparture), v.MeanDeparture))
@@ -91,33 +94,19 @@ func uniformCurve(t rating.Table, qmax float64) plotting.Curve {
 	return c
 }
 
-// uniformDeparture says how far the backwater rating stands from the
-// uniform-flow rating of the same section, over the discharges computed.
-func uniformDeparture(rep reach.BackwaterReport, t rating.Table) string {
+// uniformDeparture says how far the backwater rating stands from uniform
+// flow at the section's own normal stages at slope s (rating.NormalStages),
+// over the discharges computed.
+func uniformDeparture(rep reach.BackwaterReport, s float64) (string, error) {
+	rt := rep.Result.Rating
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, rd := range rep.Result.Rating.Rows {
-		h, ok := stageOf(t, rd.Discharge)
-		if !ok {
-			continue
+	for _, rd := range rt.Rows {
+		roots, err := rating.NormalStages(rt.Geometry, rd.Discharge, rating.Options{Slope: s, Geometry: rt.GeometryOptions})
+		if err != nil {
+			return "", err
 		}
-		d := rd.Stage - h
+		d := rd.Stage - roots[len(roots)-1].Stage
 		lo, hi = math.Min(lo, d), math.Max(hi, d)
 	}
-	if math.IsInf(lo, 1) {
-		return "the uniform-flow rating does not reach these discharges"
-	}
-	return fmt.Sprintf("at the gauge the backwater rating stands %+.2f to %+.2f m from the uniform-flow rating at slope %g",
-		lo, hi, t.Slope)
-}
-
-// stageOf interpolates the stage of discharge q in a rating table whose
-// discharges increase, linearly between rows.
-func stageOf(t rating.Table, q float64) (float64, bool) {
-	rows := t.Rows
-	i := sort.Search(len(rows), func(i int) bool { return rows[i].Discharge >= q })
-	if i == 0 || i == len(rows) {
-		return math.NaN(), false
-	}
-	a, b := rows[i-1], rows[i]
-	return a.Stage + (q-a.Discharge)/(b.Discharge-a.Discharge)*(b.Stage-a.Stage), true
+	return fmt.Sprintf("at the gauge the backwater rating stands %+.2f to %+.2f m from uniform flow at slope %g", lo, hi, s), nil
 }
