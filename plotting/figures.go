@@ -244,3 +244,111 @@ func DrawPlan(in PlanPlot, base string) ([]rating.Figure, []string, error) {
 	err := set.add("plan", "plan of the survey "+in.Section+" and its section line", func(w io.Writer) (Result, error) { return Plan(w, in) })
 	return set.figs, set.warnings, err
 }
+
+// BackwaterFigures are the inputs of the figures of a step-backwater
+// report.
+type BackwaterFigures struct {
+	// Site titles the figures; Base starts their file names.
+	Site, Base string
+	// Report is the step-backwater report.
+	Report reach.BackwaterReport
+	// Compare are other ratings at the rating section, drawn with the
+	// step-backwater rating (the section's uniform-flow rating, say).
+	Compare []Curve
+	// Size is the pixel size (zero value: the default).
+	Size Size
+}
+
+// DrawBackwater draws the figures of a step-backwater report: the reach
+// profile with every computed profile, the stages at critical depth, the
+// high-water marks and a verified profile (Base-profiles.png), and the
+// rating at the rating section with the band between the profiles from
+// the two boundary stages, reads still depending on the boundary ringed,
+// beside any ratings to compare (Base-rating.png).
+func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: in.Base}
+	rep := in.Report
+	r := rep.Result
+	name := rep.Name
+	if in.Site != "" {
+		name = "" // the site names the reach; keep the title on one line
+	}
+	bp := BackwaterPlot{Site: in.Site, Reach: name, Units: r.Units, At: r.Rating.Section, Size: in.Size,
+		Subtitle: fmt.Sprintf("%d discharges from the downstream boundary (%s); rating read at %s",
+			len(r.Profiles), r.Boundary.Words(r.Units), r.Rating.Section)}
+	for _, s := range rep.Sections {
+		rs := ReachSection{ID: s.ID, Distance: s.Distance, Bed: math.NaN()}
+		if s.Geometry != nil {
+			rs.Bed = s.Geometry.Bottom()
+		}
+		if !math.IsNaN(s.Left) {
+			rs.Marks = append(rs.Marks, HighWaterMark{Side: Left, Elevation: s.Left})
+		}
+		if !math.IsNaN(s.Right) {
+			rs.Marks = append(rs.Marks, HighWaterMark{Side: Right, Elevation: s.Right})
+		}
+		bp.Sections = append(bp.Sections, rs)
+	}
+	for _, p := range r.Profiles {
+		bp.Profiles = append(bp.Profiles, profileLine(p, false))
+	}
+	if v := rep.Verification; v != nil {
+		bp.Profiles = append(bp.Profiles, profileLine(v.Profile, true))
+		bp.Notes = append(bp.Notes, fmt.Sprintf("verification at %s %s: mean departure from the marks %+.3f %s, largest %+.3f %s",
+			sig3(v.Discharge), r.Units.Discharge(), v.MeanDeparture, r.Units.Length(), v.MaxDeparture, r.Units.Length()))
+	}
+	if err := set.add("profiles", "reach profile: thalweg, every computed water surface, critical stages and high-water marks", func(w io.Writer) (Result, error) {
+		return BackwaterProfiles(w, bp)
+	}); err != nil {
+		return nil, nil, err
+	}
+	rc := backwaterComparison(in)
+	caption := "step-backwater rating at " + r.Rating.Section + ", with the band between the profiles from the two boundary stages"
+	if len(in.Compare) > 0 {
+		caption += ", beside the ratings compared"
+	}
+	if err := set.add("rating", caption, func(w io.Writer) (Result, error) {
+		return CompareRatings(w, rc)
+	}); err != nil {
+		return nil, nil, err
+	}
+	return set.figs, set.warnings, nil
+}
+
+// profileLine lays out a computed profile for the profile figure.
+func profileLine(p reach.SurfaceProfile, verified bool) ProfileLine {
+	pl := ProfileLine{Discharge: p.Discharge, Verified: verified}
+	for _, s := range p.Sections {
+		pl.Points = append(pl.Points, ProfilePoint{Distance: s.Distance, WaterSurface: s.WaterSurface,
+			EnergyGrade: s.EnergyGrade, Critical: s.Critical})
+	}
+	return pl
+}
+
+// backwaterComparison lays out the rating of a step-backwater report and
+// the ratings to compare with it.
+func backwaterComparison(in BackwaterFigures) RatingComparison {
+	r := in.Report.Result
+	rt := r.Rating
+	rc := RatingComparison{Site: in.Site, Section: rt.Section, Units: r.Units, Size: in.Size,
+		Subtitle: fmt.Sprintf("step-backwater rating from the downstream boundary (%s); %s units",
+			r.Boundary.Words(r.Units), strings.ToUpper(r.Units.String())),
+		BandLabel:   "between the profiles from the two boundary stages",
+		MarkedLabel: fmt.Sprintf("still depending on the boundary (spread over %g %s)", rt.Tolerance, r.Units.Length())}
+	c := Curve{Label: "step-backwater rating at " + rt.Section}
+	for i, rd := range rt.Rows {
+		c.Points = append(c.Points, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})
+		if i < len(r.Profiles) && rt.Index < len(r.Profiles[i].Sections) {
+			second := r.Profiles[i].Sections[rt.Index].SecondWaterSurface
+			rc.Band = append(rc.Band, StageBand{Discharge: rd.Discharge, Low: math.Min(rd.Stage, second), High: math.Max(rd.Stage, second)})
+		}
+		if rd.Unsettled {
+			rc.Marked = append(rc.Marked, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})
+		}
+	}
+	rc.Curves = append([]Curve{c}, in.Compare...)
+	if len(in.Compare) == 0 {
+		rc.What = "step-backwater rating"
+	}
+	return rc
+}

@@ -15,8 +15,10 @@ import (
 )
 
 // Column names of a reach table (matched case-insensitively). Section,
-// survey, distance, ws_left and ws_right are required; quality and note
-// are optional.
+// survey and distance are required; ws_left and ws_right are required for
+// the slope-area method (ReadReach) and optional for step-backwater
+// (ReachOptions.MarksOptional); quality and note are optional. The
+// columns of ReachFlowColumns and structure are optional.
 const (
 	ReachColSection  = "section"
 	ReachColSurvey   = "survey"
@@ -24,11 +26,38 @@ const (
 	ReachColWSLeft   = "ws_left"
 	ReachColWSRight  = "ws_right"
 	ReachColQuality  = "quality"
+	// ReachColLeftLength, ReachColChannelLength and ReachColRightLength
+	// are the lengths of the flow paths from the section to the next one
+	// downstream along the left overbank, the channel and the right
+	// overbank (length unit; blank: the distance between the sections).
+	ReachColLeftLength    = "left_length"
+	ReachColChannelLength = "channel_length"
+	ReachColRightLength   = "right_length"
+	// ReachColStructure names a structure at the section (bridge,
+	// culvert, weir); blank for an open channel.
+	ReachColStructure = "structure"
 )
 
 // ReachColumns returns the columns of a reach table in their usual order.
 func ReachColumns() []string {
 	return []string{ReachColSection, ReachColSurvey, ReachColDistance, ReachColWSLeft, ReachColWSRight, ReachColQuality, ColNote}
+}
+
+// ReachFlowColumns returns the optional columns of a reach table that
+// describe the flow to the next section, in their usual order: the three
+// flow lengths and the structure.
+func ReachFlowColumns() []string {
+	return []string{ReachColLeftLength, ReachColChannelLength, ReachColRightLength, ReachColStructure}
+}
+
+// knownReachColumn reports whether a header names a column of a reach table.
+func knownReachColumn(t *Table, i int) bool {
+	for _, c := range append(ReachColumns(), ReachFlowColumns()...) {
+		if t.Column(c) == i {
+			return true
+		}
+	}
+	return false
 }
 
 // Causes of reach-table errors, for errors.Is.
@@ -43,6 +72,9 @@ var (
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
 	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
+	ErrFlowLengthValue  = errors.New("a flow length must be zero or more (blank: the distance to the next section)")
+	ErrStructure        = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
+		"is refused, not approximated; end the reach above it or start it below it")
 )
 
 // ReachRow is one section of a reach table.
@@ -60,6 +92,12 @@ type ReachRow struct {
 	Quality rating.Quality
 	// Note is the note column.
 	Note string
+	// LeftLength, ChannelLength and RightLength are the flow lengths to
+	// the next section (length unit); NaN when blank or absent.
+	LeftLength, ChannelLength, RightLength float64
+	// Structure is the structure column as written ("" for an open
+	// channel).
+	Structure string
 	// Row is the 1-based line or sheet row.
 	Row int
 }
@@ -84,17 +122,35 @@ type Reach struct {
 	cols map[string]int
 }
 
-// ReadReach reads a reach table from a CSV file or a workbook sheet, then
-// every section's survey: a sheet of the same workbook when the reach is in
-// a workbook and a sheet has that name, otherwise a file relative to the
-// reach file's folder (CSV, or the first sheet of a workbook).
+// ReachOptions say how a reach table is read. The zero value reads a
+// slope-area reach: every section needs a high-water mark.
+type ReachOptions struct {
+	// Section configures the reading of every section's survey.
+	Section SectionOptions
+	// MarksOptional accepts sections without marks, and a table without
+	// the ws_left and ws_right columns (a step-backwater reach).
+	MarksOptional bool
+}
+
+// ReadReach reads a slope-area reach table from a CSV file or a workbook
+// sheet, then every section's survey (see ReadReachWith): every section
+// needs a high-water mark.
 func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
+	return ReadReachWith(path, sheet, ReachOptions{Section: opt})
+}
+
+// ReadReachWith reads a reach table from a CSV file or a workbook sheet,
+// then every section's survey: a sheet of the same workbook when the reach
+// is in a workbook and a sheet has that name, otherwise a file relative to
+// the reach file's folder (CSV, or the first sheet of a workbook).
+func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
+	opt := ro.Section
 	t, err := ReadTable(path, sheet)
 	if err != nil {
 		return nil, err
 	}
 	sheets := t.Sheets
-	r, err := ReachFromTable(t)
+	r, err := ReachTable(t, ro)
 	if err != nil {
 		return nil, err
 	}
@@ -138,86 +194,47 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 	return r, nil
 }
 
-// ReachFromTable reads the rows of a reach table without reading the
-// surveys. Every bad cell is reported, each naming its row and column.
+// ReachFromTable reads the rows of a slope-area reach table without
+// reading the surveys (ReachTable with the zero ReachOptions).
 func ReachFromTable(t *Table) (*Reach, error) {
+	return ReachTable(t, ReachOptions{})
+}
+
+// ReachTable reads the rows of a reach table without reading the surveys.
+// Every bad cell is reported, each naming its row and column. Flow lengths
+// given at the last section are not used (a warning says so).
+func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	r := &Reach{File: t.File, Sheet: t.Sheet, t: t, cols: map[string]int{}}
-	for _, name := range ReachColumns()[:5] {
+	required := ReachColumns()[:5]
+	if opt.MarksOptional {
+		required = ReachColumns()[:3]
+	}
+	for _, name := range required {
 		c, err := t.Require(name)
 		if err != nil {
 			return nil, err
 		}
 		r.cols[name] = c
 	}
+	for _, name := range append(ReachColumns()[len(required):], ReachFlowColumns()...) {
+		r.cols[name] = t.Column(name)
+	}
 	var err error
-	if r.Units, err = t.HeaderUnits(r.cols[ReachColDistance], r.cols[ReachColWSLeft], r.cols[ReachColWSRight]); err != nil {
+	if r.Units, err = t.HeaderUnits(r.cols[ReachColDistance], r.cols[ReachColWSLeft], r.cols[ReachColWSRight],
+		r.cols[ReachColLeftLength], r.cols[ReachColChannelLength], r.cols[ReachColRightLength]); err != nil {
 		return nil, err
 	}
 	r.Site = t.Site()
-	r.cols[ReachColQuality] = t.Column(ReachColQuality)
-	r.cols[ColNote] = t.Column(ColNote)
 	for i, h := range t.Header {
-		if h != "" && !slices.ContainsFunc(ReachColumns(), func(c string) bool { return t.Column(c) == i }) {
+		if h != "" && !knownReachColumn(t, i) {
 			r.Warnings = append(r.Warnings, fmt.Sprintf("%s: column %q is not used", where(t, t.HeaderRow), h))
 		}
 	}
 	var errs errorList
-	add := func(rec Record, name string, err error) {
-		errs = append(errs, t.At(rec, r.cols[name], err))
-	}
 	ids := map[string]bool{}
 	lastDist := math.Inf(-1)
 	for _, rec := range t.Records {
-		row := ReachRow{Row: rec.Row, WSLeft: math.NaN(), WSRight: math.NaN(),
-			ID:     t.Cell(rec, r.cols[ReachColSection]),
-			Survey: t.Cell(rec, r.cols[ReachColSurvey]),
-			Note:   t.Cell(rec, r.cols[ColNote])}
-		switch {
-		case row.ID == "":
-			add(rec, ReachColSection, ErrSectionID)
-		case ids[row.ID]:
-			add(rec, ReachColSection, ErrDuplicateSection)
-		}
-		ids[row.ID] = true
-		if row.Survey == "" {
-			add(rec, ReachColSurvey, ErrNoSurvey)
-		}
-		d, ok, err := t.Float(rec, r.cols[ReachColDistance])
-		switch {
-		case err != nil:
-			errs = append(errs, err.(*ParseError))
-		case !ok:
-			add(rec, ReachColDistance, ErrDistanceBlank)
-		case !(d > lastDist):
-			add(rec, ReachColDistance, fmt.Errorf("%w (%g after %g)", ErrDistanceOrder, d, lastDist))
-		}
-		if ok {
-			row.Distance = d
-			lastDist = d
-		}
-		marks := 0
-		for _, c := range []struct {
-			name string
-			v    *float64
-		}{{ReachColWSLeft, &row.WSLeft}, {ReachColWSRight, &row.WSRight}} {
-			v, ok, err := t.Float(rec, r.cols[c.name])
-			switch {
-			case err != nil:
-				errs = append(errs, err.(*ParseError))
-				marks++ // reported already
-			case ok:
-				*c.v = v
-				marks++
-			}
-		}
-		if marks == 0 {
-			add(rec, ReachColWSLeft, ErrNoHighWaterMark)
-		}
-		if q, err := rating.ParseQuality(t.Cell(rec, r.cols[ReachColQuality])); err != nil {
-			add(rec, ReachColQuality, ErrMarkQuality)
-		} else {
-			row.Quality = q
-		}
+		row := r.readRow(rec, opt, ids, &lastDist, &errs)
 		r.Rows = append(r.Rows, row)
 	}
 	if len(errs) > 0 {
@@ -226,7 +243,102 @@ func ReachFromTable(t *Table) (*Reach, error) {
 	if len(r.Rows) == 0 {
 		return nil, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
+	if last := r.Rows[len(r.Rows)-1]; finite(last.LeftLength) || finite(last.ChannelLength) || finite(last.RightLength) {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("%s: section %s is the last of the reach: its flow lengths are not used",
+			where(t, last.Row), last.ID))
+	}
 	return r, nil
+}
+
+// readRow reads one section of a reach table, adding every bad cell to
+// errs.
+func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastDist *float64, errs *errorList) ReachRow {
+	t := r.t
+	add := func(name string, err error) {
+		*errs = append(*errs, t.At(rec, r.cols[name], err))
+	}
+	nan := math.NaN()
+	row := ReachRow{Row: rec.Row, WSLeft: nan, WSRight: nan, LeftLength: nan, ChannelLength: nan, RightLength: nan,
+		ID:        t.Cell(rec, r.cols[ReachColSection]),
+		Survey:    t.Cell(rec, r.cols[ReachColSurvey]),
+		Note:      t.Cell(rec, r.cols[ColNote]),
+		Structure: t.Cell(rec, r.cols[ReachColStructure])}
+	switch {
+	case row.ID == "":
+		add(ReachColSection, ErrSectionID)
+	case ids[row.ID]:
+		add(ReachColSection, ErrDuplicateSection)
+	}
+	ids[row.ID] = true
+	if row.Survey == "" {
+		add(ReachColSurvey, ErrNoSurvey)
+	}
+	d, ok, err := t.Float(rec, r.cols[ReachColDistance])
+	switch {
+	case err != nil:
+		*errs = append(*errs, err.(*ParseError))
+	case !ok:
+		add(ReachColDistance, ErrDistanceBlank)
+	case !(d > *lastDist):
+		add(ReachColDistance, fmt.Errorf("%w (%g after %g)", ErrDistanceOrder, d, *lastDist))
+	}
+	if ok {
+		row.Distance = d
+		*lastDist = d
+	}
+	marks := 0
+	for _, c := range []struct {
+		name string
+		v    *float64
+	}{{ReachColWSLeft, &row.WSLeft}, {ReachColWSRight, &row.WSRight}} {
+		v, ok, err := t.Float(rec, r.cols[c.name])
+		switch {
+		case err != nil:
+			*errs = append(*errs, err.(*ParseError))
+			marks++ // reported already
+		case ok:
+			*c.v = v
+			marks++
+		}
+	}
+	if marks == 0 && !opt.MarksOptional {
+		add(ReachColWSLeft, ErrNoHighWaterMark)
+	}
+	for _, c := range []struct {
+		name string
+		v    *float64
+	}{{ReachColLeftLength, &row.LeftLength}, {ReachColChannelLength, &row.ChannelLength}, {ReachColRightLength, &row.RightLength}} {
+		v, ok, err := t.Float(rec, r.cols[c.name])
+		switch {
+		case err != nil:
+			*errs = append(*errs, err.(*ParseError))
+		case ok && v < 0:
+			add(c.name, ErrFlowLengthValue)
+		case ok:
+			*c.v = v
+		}
+	}
+	if q, err := rating.ParseQuality(t.Cell(rec, r.cols[ReachColQuality])); err != nil {
+		add(ReachColQuality, ErrMarkQuality)
+	} else {
+		row.Quality = q
+	}
+	return row
+}
+
+// finite reports whether v is a number other than ±Inf.
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// OpenChannel refuses a reach with a section at a structure (the
+// structure column not blank), naming each such cell (ErrStructure).
+func (r *Reach) OpenChannel() error {
+	var errs errorList
+	for i, row := range r.Rows {
+		if row.Structure != "" {
+			errs = append(errs, r.At(i, ReachColStructure, ErrStructure))
+		}
+	}
+	return errs.err()
 }
 
 // At returns a ParseError at section i's cell in the named column (one of
@@ -255,11 +367,12 @@ func (r *Reach) Inputs() []string {
 	return out
 }
 
-// ReachSections compiles each section's survey for the slope-area method
-// in unit system u (a survey whose headers say otherwise is an error),
-// with its id, distance and marks, and the standard deviation of its marks
-// from their quality rating (rating.Quality.MarkSD; zero, the default, when
-// blank). Geometry errors name the survey file.
+// ReachSections compiles each section's survey for the reach methods in
+// unit system u (a survey whose headers say otherwise is an error), with
+// its id, distance, marks (NaN where blank), flow lengths (zero where
+// blank: the distance to the next section), and the standard deviation of
+// its marks from their quality rating (rating.Quality.MarkSD; zero, the
+// default, when blank). Geometry errors name the survey file.
 func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 	if len(r.Surveys) != len(r.Rows) {
 		return nil, errors.New("survey: reach surveys not read")
@@ -278,15 +391,24 @@ func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 			return nil, &ParseError{File: sv.File, Sheet: sv.Sheet, Err: err}
 		}
 		out[i] = reach.Section{ID: row.ID, Geometry: g, Distance: row.Distance,
-			Left: row.WSLeft, Right: row.WSRight, Survey: row.Survey, Quality: row.Quality, Note: row.Note}
+			Left: row.WSLeft, Right: row.WSRight, Survey: row.Survey, Quality: row.Quality, Note: row.Note,
+			FlowLengths: subdivide.PerRegion{Left: zeroIfBlank(row.LeftLength), Channel: zeroIfBlank(row.ChannelLength),
+				Right: zeroIfBlank(row.RightLength)}}
 		out[i].MarkSD, _ = row.Quality.MarkSD(u)
 	}
 	return out, nil
 }
 
-// PlaceError positions an error of the slope-area computation on the
-// reach table when it concerns one section (a reach.SectionError), and
-// returns other errors prefixed with the reach file.
+func zeroIfBlank(v float64) float64 {
+	if math.IsNaN(v) {
+		return 0
+	}
+	return v
+}
+
+// PlaceError positions an error of a reach computation on the reach
+// table when it concerns one section (a reach.SectionError), and returns
+// other errors prefixed with the reach file.
 func (r *Reach) PlaceError(err error) error {
 	var se *reach.SectionError
 	if errors.As(err, &se) && se.Index >= 0 && se.Index < len(r.Rows) {
@@ -296,6 +418,8 @@ func (r *Reach) PlaceError(err error) error {
 			col = ReachColWSLeft
 		case "geometry":
 			col = ReachColSurvey
+		case "flow_lengths":
+			col = ReachColChannelLength
 		}
 		return r.At(se.Index, col, se.Err)
 	}
@@ -317,4 +441,97 @@ func within(path, dir string) bool {
 	}
 	rel, err := filepath.Rel(abs(dir), abs(path))
 	return err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) && !filepath.IsAbs(rel)
+}
+
+// Causes of boundary-rating errors, for errors.Is.
+var (
+	ErrBoundaryOrder  = errors.New("stage and discharge must both increase from row to row")
+	ErrBoundaryPoints = errors.New("a boundary rating needs two or more rows with stage and discharge")
+	ErrNegativeFlow   = errors.New("discharge must not be negative")
+)
+
+// BoundaryRating is a stage–discharge relation at the last section of a
+// reach, read for the downstream boundary of a step-backwater
+// computation.
+type BoundaryRating struct {
+	// File and Sheet say where it was read.
+	File, Sheet string
+	// Points are the rows, stage and discharge both increasing.
+	Points []reach.StageDischarge
+	// Rows are the 1-based lines or sheet rows of Points.
+	Rows []int
+}
+
+// ReadBoundaryRating reads a stage–discharge relation from a CSV file or
+// a workbook sheet (sheet "" reads a sheet named rating when the workbook
+// has one, as a results workbook of rate does, else the first): any table
+// with a stage and a discharge column, such as the rating table rate
+// writes. Stages are in the datum of the reach's surveys. See
+// BoundaryRatingFromTable.
+func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
+	t, err := readTable(path, sheet, "rating")
+	if err != nil {
+		return BoundaryRating{}, err
+	}
+	return BoundaryRatingFromTable(t)
+}
+
+// BoundaryRatingFromTable reads the stage and discharge columns of t. Both
+// are required in every row, discharge not negative; of a leading run of
+// rows without flow (a rating table starts at the dry bed) only the last
+// is kept; from there on stage and discharge must both increase. Every bad
+// cell is reported, each naming its row and column.
+func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
+	out := BoundaryRating{File: t.File, Sheet: t.Sheet}
+	cs, err := t.Require(ColRatingStage)
+	if err != nil {
+		return out, err
+	}
+	cq, err := t.Require(ColRatingDischarge)
+	if err != nil {
+		return out, err
+	}
+	var errs errorList
+	need := func(rec Record, c int, what string) (float64, bool) {
+		v, ok, err := t.Float(rec, c)
+		switch {
+		case err != nil:
+			errs = append(errs, err.(*ParseError))
+		case !ok:
+			errs = append(errs, t.At(rec, c, fmt.Errorf("%w: %s is blank", ErrNotNumber, what)))
+		default:
+			return v, true
+		}
+		return 0, false
+	}
+	for _, rec := range t.Records {
+		h, okh := need(rec, cs, "stage")
+		q, okq := need(rec, cq, "discharge")
+		if !okh || !okq {
+			continue
+		}
+		n := len(out.Points)
+		switch {
+		case q < 0:
+			errs = append(errs, t.At(rec, cq, ErrNegativeFlow))
+			continue
+		case n == 1 && out.Points[0].Discharge == 0 && q == 0 && h > out.Points[0].Stage:
+			out.Points, out.Rows = out.Points[:0], out.Rows[:0] // still dry: keep the last dry row only
+		case n > 0 && !(h > out.Points[n-1].Stage):
+			errs = append(errs, t.At(rec, cs, fmt.Errorf("%w (%g after %g)", ErrBoundaryOrder, h, out.Points[n-1].Stage)))
+			continue
+		case n > 0 && !(q > out.Points[n-1].Discharge):
+			errs = append(errs, t.At(rec, cq, fmt.Errorf("%w (%g after %g)", ErrBoundaryOrder, q, out.Points[n-1].Discharge)))
+			continue
+		}
+		out.Points = append(out.Points, reach.StageDischarge{Stage: h, Discharge: q})
+		out.Rows = append(out.Rows, rec.Row)
+	}
+	if err := errs.err(); err != nil {
+		return out, err
+	}
+	if len(out.Points) < 2 {
+		return out, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrBoundaryPoints}
+	}
+	return out, nil
 }

@@ -11,6 +11,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/reach"
+	"wetline/subdivide"
 )
 
 const reachSurveyCSV = `station,elevation,n,mark
@@ -241,4 +242,191 @@ func TestReachSurveyOutsideFolder(t *testing.T) {
 			t.Errorf("survey %s allowed: %v", ref, err)
 		}
 	}
+}
+
+// A step-backwater reach: marks optional (no mark columns at all), flow
+// lengths by path, blank ones meaning the distance.
+func TestReadReachBackwater(t *testing.T) {
+	dir := reachFiles(t, map[string]string{
+		"reach.csv": "section,survey,distance,left_length,channel_length (m),right_length,structure\n" +
+			"A,a.csv,0,90,120,,\n" +
+			"B,a.csv,120,,,,\n" +
+			"C,a.csv,250,5,,,\n",
+		"a.csv": reachSurveyCSV,
+	})
+	path := filepath.Join(dir, "reach.csv")
+	if _, err := ReadReach(path, "", SectionOptions{}); !errors.Is(err, ErrMissingColumn) {
+		t.Errorf("slope-area reader without marks: %v", err)
+	}
+	r, err := ReadReachWith(path, "", ReachOptions{MarksOptional: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a := r.Rows[0]
+	if a.LeftLength != 90 || a.ChannelLength != 120 || !math.IsNaN(a.RightLength) || !math.IsNaN(a.WSLeft) || a.Structure != "" {
+		t.Errorf("row A = %+v", a)
+	}
+	if !strings.Contains(r.Warnings[0], "reach.csv:4") || !strings.Contains(r.Warnings[0], "flow lengths are not used") {
+		t.Errorf("warnings %q", r.Warnings)
+	}
+	secs, err := r.ReachSections(rating.SI)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := secs[0].FlowLengths; got.Left != 90 || got.Channel != 120 || got.Right != 0 || !math.IsNaN(secs[0].Left) {
+		t.Errorf("flow lengths %+v, marks %g", got, secs[0].Left)
+	}
+	if secs[1].FlowLengths != (subdivide.PerRegion{}) {
+		t.Errorf("blank lengths %+v", secs[1].FlowLengths)
+	}
+	if err := r.OpenChannel(); err != nil {
+		t.Errorf("open channel: %v", err)
+	}
+}
+
+// Bad cells of the backwater columns are reported at their cells; a
+// structure is refused where it is named.
+func TestReachBackwaterErrors(t *testing.T) {
+	const head = "section,survey,distance,ws_left,channel_length,structure\n"
+	for _, tc := range []struct {
+		name, reach string
+		want        error
+		where       string
+	}{
+		{"negative length", head + "A,a.csv,0,,-5,\nB,a.csv,10,,,\n", ErrFlowLengthValue, "reach.csv:2:5"},
+		{"length not a number", head + "A,a.csv,0,,far,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:5"},
+		{"bad mark", head + "A,a.csv,0,high,,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:4"},
+		{"distance order", head + "A,a.csv,10,,,\nB,a.csv,10,,,\n", ErrDistanceOrder, "reach.csv:3:3"},
+		{"structure", head + "A,a.csv,0,,,\nB,a.csv,10,,,bridge\n", ErrStructure, "reach.csv:3:6"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": tc.reach, "a.csv": reachSurveyCSV})
+			r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{MarksOptional: true})
+			if err == nil {
+				err = r.OpenChannel()
+			}
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("err = %v, want %v", err, tc.want)
+			}
+			if !strings.Contains(err.Error(), tc.where) {
+				t.Errorf("err = %v, want position %s", err, tc.where)
+			}
+		})
+	}
+}
+
+// A flow-length error of the computation is placed on the channel-length
+// cell.
+func TestReachFlowLengthErrorPosition(t *testing.T) {
+	dir := reachFiles(t, map[string]string{
+		"reach.csv": "section,survey,distance,channel_length\nA,a.csv,0,\nB,a.csv,10,\n",
+		"a.csv":     reachSurveyCSV,
+	})
+	r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{MarksOptional: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = r.PlaceError(&reach.SectionError{Index: 1, ID: "B", Field: "flow_lengths", Err: reach.ErrFlowLength})
+	if !errors.Is(err, reach.ErrFlowLength) || !strings.Contains(err.Error(), "reach.csv:3:4") {
+		t.Errorf("err = %v", err)
+	}
+}
+
+// The rating table rate writes starts at the dry bed; of the dry rows the
+// last is kept.
+func TestReadBoundaryRating(t *testing.T) {
+	dir := reachFiles(t, map[string]string{
+		"xs3-rating.csv": "stage,depth,discharge,flags\n100.05,0,0,\n100.1,0.05,0,\n100.5,0.45,1.2,\n101,0.95,6.5,pools\n",
+	})
+	b, err := ReadBoundaryRating(filepath.Join(dir, "xs3-rating.csv"), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []reach.StageDischarge{{Stage: 100.1, Discharge: 0}, {Stage: 100.5, Discharge: 1.2}, {Stage: 101, Discharge: 6.5}}
+	if len(b.Points) != 3 || b.Points[0] != want[0] || b.Points[2] != want[2] || b.Rows[0] != 3 {
+		t.Errorf("points %v rows %v", b.Points, b.Rows)
+	}
+}
+
+func TestBoundaryRatingErrors(t *testing.T) {
+	for _, tc := range []struct {
+		name, text string
+		want       error
+		where      string
+	}{
+		{"no discharge column", "stage,flow\n1,2\n", ErrMissingColumn, "r.csv:1"},
+		{"blank discharge", "stage,discharge\n1,\n2,3\n", ErrNotNumber, "r.csv:2:2"},
+		{"negative", "stage,discharge\n1,-1\n2,3\n", ErrNegativeFlow, "r.csv:2:2"},
+		{"stage falls", "stage,discharge\n1,1\n0.5,3\n", ErrBoundaryOrder, "r.csv:3:1"},
+		{"discharge flat", "stage,discharge\n1,1\n2,1\n", ErrBoundaryOrder, "r.csv:3:2"},
+		{"one row", "stage,discharge\n1,1\n", ErrBoundaryPoints, "r.csv:1"},
+		{"decimal comma", "stage,discharge\n1,\"1,5\"\n2,3\n", ErrDecimalComma, "r.csv:2:2"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"r.csv": tc.text})
+			_, err := ReadBoundaryRating(filepath.Join(dir, "r.csv"), "")
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("err = %v, want %v", err, tc.want)
+			}
+			if !strings.Contains(err.Error(), tc.where) {
+				t.Errorf("err = %v, want position %s", err, tc.where)
+			}
+		})
+	}
+}
+
+// FuzzReachTableBackwater checks the step-backwater reading of a reach
+// table: no panic, and an accepted table keeps its promises.
+func FuzzReachTableBackwater(f *testing.F) {
+	f.Add([]byte("section,survey,distance,left_length,channel_length,right_length\nA,a,0,5,,7\nB,b,10,,,\n"))
+	f.Add([]byte("section,survey,distance,structure\nA,a,0,bridge\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		tab, err := ParseCSV(bytes.NewReader(data), "fuzz.csv")
+		if err != nil {
+			return
+		}
+		r, err := ReachTable(tab, ReachOptions{MarksOptional: true})
+		if err != nil {
+			if err.Error() == "" {
+				t.Error("empty error message")
+			}
+			return
+		}
+		for i, row := range r.Rows {
+			for _, l := range []float64{row.LeftLength, row.ChannelLength, row.RightLength} {
+				if l < 0 || math.IsInf(l, 0) {
+					t.Errorf("row %d: flow length %g accepted", i, l)
+				}
+			}
+			if i > 0 && !(row.Distance > r.Rows[i-1].Distance) {
+				t.Errorf("row %d: distance %g after %g accepted", i, row.Distance, r.Rows[i-1].Distance)
+			}
+		}
+	})
+}
+
+// FuzzBoundaryRatingFromTable checks that an accepted boundary rating
+// increases in stage and discharge.
+func FuzzBoundaryRatingFromTable(f *testing.F) {
+	f.Add([]byte("stage,discharge\n100,0\n100.5,0\n101,2\n102,9\n"))
+	f.Add([]byte("Stage (m),Discharge (m3/s)\n1,1\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		tab, err := ParseCSV(bytes.NewReader(data), "fuzz.csv")
+		if err != nil {
+			return
+		}
+		b, err := BoundaryRatingFromTable(tab)
+		if err != nil {
+			return
+		}
+		if len(b.Points) < 2 {
+			t.Fatalf("%d points accepted", len(b.Points))
+		}
+		for i := 1; i < len(b.Points); i++ {
+			p, q := b.Points[i-1], b.Points[i]
+			if !(q.Stage > p.Stage && q.Discharge > p.Discharge) || p.Discharge < 0 {
+				t.Errorf("points %d, %d: %v then %v", i-1, i, p, q)
+			}
+		}
+	})
 }

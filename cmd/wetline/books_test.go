@@ -392,6 +392,10 @@ type saReport struct {
 		Conveyance   float64
 		Froude       float64
 		WSLeft       float64 `json:"ws_left"`
+		Subsections  []struct {
+			N          float64
+			Conveyance float64
+		}
 	}
 	Subreaches []struct {
 		From, To  string
@@ -429,8 +433,8 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	f := openBook(t, path)
-	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubreaches,
-		results.SheetChecks, results.SheetUncertainty, results.SheetPlots}
+	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubsections,
+		results.SheetSubreaches, results.SheetChecks, results.SheetUncertainty, results.SheetPlots}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
@@ -473,6 +477,21 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	}
 	if _, format := sec.style(t, 0, sec.col(t, "water_surface")); format != "0.000" {
 		t.Errorf("water surface format %q", format)
+	}
+	// The n of every subsection of every section, as in the JSON.
+	ns := readSheet(t, f, results.SheetSubsections)
+	k := 0
+	for _, s := range rep.Sections {
+		for _, x := range s.Subsections {
+			if k+1 >= len(ns.rows) || ns.rows[k+1][0] != s.ID || ns.num(t, k, ns.col(t, "n")) != x.N ||
+				!closeTo(ns.num(t, k, ns.col(t, "conveyance")), x.Conveyance, relClose) {
+				t.Errorf("subsection row %d: %q, want %s n %g", k+1, ns.rows[min(k+1, len(ns.rows)-1)], s.ID, x.N)
+			}
+			k++
+		}
+	}
+	if k == 0 || k != len(ns.rows)-1 {
+		t.Errorf("%d subsection rows, %d in the JSON", len(ns.rows)-1, k)
 	}
 	for i, s := range rep.Subreaches {
 		if sub.rows[i+1][0] != s.From || !closeTo(sub.num(t, i, sub.col(t, "discharge")), s.Discharge, relClose) {

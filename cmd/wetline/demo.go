@@ -76,6 +76,7 @@ func demoSteps() []struct {
 		{"Gaugings at the Tallow Creek staff gauge (invented):", (*demo).fit},
 		{"A built section, the Mill Lane road culvert (invented):", (*demo).culvert},
 		{"Brindle Creek below Quarry Road, a post-flood slope-area reach (invented):", (*demo).slopeArea},
+		{"Tallow Creek through the gauge, a step-backwater rating from the surveyed reach (invented):", (*demo).backwater},
 	}
 }
 

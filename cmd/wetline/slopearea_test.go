@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"image/png"
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -62,7 +63,17 @@ func TestSlopeAreaJSONContract(t *testing.T) {
 	need(first("sections"), "section", "id", "water_surface", "area", "conveyance", "alpha", "velocity_head", "froude")
 	need(first("subreaches"), "subreach", "from", "to", "length", "fall", "discharge", "expanding")
 	need(first("checks"), "check", "name", "value", "limit", "pass")
-	need(doc["uncertainty"], "uncertainty", "p05", "p50", "p95")
+	need(doc["uncertainty"], "uncertainty", "p05", "p50", "p95", "dq_dn", "dq_dn_per_0_001_n")
+	sec0 := first("sections").(map[string]any)
+	subs, _ := sec0["subsections"].([]any)
+	if len(subs) == 0 {
+		t.Fatal("sections[0] has no subsections")
+	}
+	need(subs[0], "subsection", "from_station", "to_station", "n", "area", "conveyance")
+	un := doc["uncertainty"].(map[string]any)
+	if a, b := un["dq_dn"].(float64), un["dq_dn_per_0_001_n"].(float64); math.Abs(a*0.001-b) > 1e-9*math.Abs(a) {
+		t.Errorf("dq_dn %g and dq_dn_per_0_001_n %g disagree", a, b)
+	}
 	if q, _ := doc["discharge"].(float64); !(q > 0) {
 		t.Errorf("discharge %v", doc["discharge"])
 	}

@@ -5,6 +5,8 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"wetline/rating"
 )
 
 // BoundaryKind names how the stage at the downstream end of a reach is
@@ -89,6 +91,21 @@ func (b Boundary) String() string {
 		return "stage-discharge rating"
 	}
 	return b.Kind.String()
+}
+
+// Words describes the boundary for a report, with the units of u: the
+// slope of normal depth, the stage of a known stage, the points and
+// discharge range of a rating.
+func (b Boundary) Words(u rating.Units) string {
+	switch b.Kind {
+	case KnownStage:
+		return fmt.Sprintf("stage %.3f %s", b.Stage, u.Length())
+	case StageRating:
+		if n := len(b.Rating); n > 0 && b.StageOf == nil {
+			return fmt.Sprintf("stage–discharge rating of %d points, %.4g to %.4g %s", n, b.Rating[0].Discharge, b.Rating[n-1].Discharge, u.Discharge())
+		}
+	}
+	return b.String()
 }
 
 // validate checks the fields the kind reads.

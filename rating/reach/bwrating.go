@@ -3,6 +3,7 @@ package reach
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"wetline/rating"
 )
@@ -104,6 +105,11 @@ type MarkDeparture struct {
 	// Departure is WaterSurface − Mark; LeftDeparture and RightDeparture
 	// those from each mark (NaN where missing).
 	Departure, LeftDeparture, RightDeparture float64
+	// Band is the elevation band of the marks' quality rating
+	// (rating.Quality.MarkSD; NaN when unrated, length unit); Outside
+	// reports a departure larger than it.
+	Band    float64
+	Outside bool
 }
 
 // VerifyBackwater computes the profile of discharge q through the reach
@@ -112,6 +118,12 @@ type MarkDeparture struct {
 // verified when the marks of a flood of known discharge lie on its
 // computed profile within their uncertainty (Davidian, 1984, USGS TWRI
 // 3-A15, verified reaches).
+//
+// Each departure is set against the band of the section's mark quality
+// (Section.Quality; rating.Quality.MarkSD), where rated. The warnings are
+// the computation's, except that a profile still depending on the
+// boundary is warned at the marked sections where it does (spread above
+// the tolerance) rather than at the rating section.
 //
 // Errors are ComputeBackwater's, or ErrNoMarks when no section has a mark.
 func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions) (Verification, error) {
@@ -127,8 +139,17 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 	if err != nil {
 		return v, err
 	}
-	v.Profile, v.Warnings = bw.Profiles[0], append(bw.Warnings, bw.Profiles[0].Warnings...)
+	v.Profile = bw.Profiles[0]
+	unsettled := unsettledWarning(bw.Rating, opt.Units)
+	for _, w := range bw.Warnings {
+		if w != unsettled { // said below, at the marks rather than at the rating section
+			v.Warnings = append(v.Warnings, w)
+		}
+	}
+	v.Warnings = append(v.Warnings, v.Profile.Warnings...)
 	var sum float64
+	var loose []string
+	tol := opt.spreadTolerance()
 	for i, s := range secs {
 		mark, used, _ := saWaterSurface(s, MeanSide)
 		if used == 0 {
@@ -143,6 +164,14 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 		if finite(s.Right) {
 			d.RightDeparture = ws - s.Right
 		}
+		if sp := v.Profile.Sections[i].Spread; sp > tol {
+			loose = append(loose, fmt.Sprintf("%s (%.3f %s)", s.ID, sp, opt.Units.Length()))
+		}
+		d.Band = math.NaN()
+		if band, ok := s.Quality.MarkSD(opt.Units); ok {
+			d.Band = band
+			d.Outside = math.Abs(d.Departure) > band*(1+MarkSpreadEpsilon)
+		}
 		v.Marks = append(v.Marks, d)
 		sum += d.Departure
 		if !(math.Abs(d.Departure) <= math.Abs(v.MaxDeparture)) {
@@ -150,5 +179,10 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 		}
 	}
 	v.MeanDeparture = sum / float64(len(v.Marks))
+	if len(loose) > 0 {
+		v.Warnings = append(v.Warnings, fmt.Sprintf("the profile of %g %s still depends on the downstream boundary at the marks of %s "+
+			"(difference between the profiles from the two boundary stages): the departures there are uncertain by as much",
+			q, opt.Units.Discharge(), strings.Join(loose, ", ")))
+	}
 	return v, nil
 }

@@ -132,7 +132,10 @@ func (r *bwRun) secondWords() string {
 	if r.second != nil {
 		return r.second.String()
 	}
-	return fmt.Sprintf("critical depth (%.1f times the first start's depth where that is critical)", RaisedStartFactor)
+	if r.b.Kind == CriticalDepth {
+		return fmt.Sprintf("%.1f times critical depth", RaisedStartFactor)
+	}
+	return fmt.Sprintf("critical depth (or %.1f times the first start's depth where that start is itself critical)", RaisedStartFactor)
 }
 
 // criticals returns the critical crossings of section j at discharge q.

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 
+	"wetline/rating"
 	"wetline/rating/reach"
 	"wetline/subdivide"
 )
@@ -115,4 +116,29 @@ func ExampleBackwaterRating_Table() {
 	// stage 50.902 m  depth 0.902 m  area 6.14 m2  K 158 m3/s  Q 5.00 m3/s  V 0.81 m/s
 	// stage 51.625 m  depth 1.625 m  area 13.41 m2  K 474 m3/s  Q 15.00 m3/s  V 1.12 m/s
 	// stage 52.310 m  depth 2.310 m  area 22.22 m2  K 949 m3/s  Q 30.00 m3/s  V 1.35 m/s
+}
+
+// A step-backwater study of the example reach: the rating at the upstream
+// section as a table, and a flood's marks set against its profile, each
+// within the band of its quality (a good mark: ±0.10 ft).
+func ExampleStepBackwater() {
+	secs := trapezoidReach(8, 400, 0.001)
+	secs[0].Left, secs[0].Quality = 52.09, rating.Good
+	rep, err := reach.StepBackwater(secs, []float64{10, 25}, reach.Boundary{Kind: reach.NormalDepth, Slope: 0.001},
+		reach.BackwaterReportOptions{Verify: 25})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, r := range rep.Table.Rows {
+		fmt.Printf("%s: %.0f m3/s at %.3f m, area %.2f m2, friction slope %.5f\n", rep.Result.Rating.Section, r.Discharge, r.Stage, r.Area,
+			(r.Discharge/r.Conveyance)*(r.Discharge/r.Conveyance))
+	}
+	for _, m := range rep.Verification.Marks {
+		fmt.Printf("mark at %s: departure %+.3f m, band ±%.3f m, outside %v\n", m.ID, m.Departure, m.Band, m.Outside)
+	}
+	// Output:
+	// S1: 10 m3/s at 51.314 m, area 10.02 m2, friction slope 0.00100
+	// S1: 25 m3/s at 52.109 m, area 19.44 m2, friction slope 0.00100
+	// mark at S1: departure +0.019 m, band ±0.030 m, outside false
 }

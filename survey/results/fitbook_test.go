@@ -166,7 +166,7 @@ func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)
-	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubreaches, results.SheetChecks}
+	want := []string{results.SheetSummary, results.SheetReachInputs, results.SheetSections, results.SheetSubsections, results.SheetSubreaches, results.SheetChecks}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}

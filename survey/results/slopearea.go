@@ -11,25 +11,26 @@ import (
 )
 
 type jsonSASection struct {
-	ID              string `json:"id"`
-	Survey          string `json:"survey,omitempty"`
-	Distance        Float  `json:"distance"`
-	WSLeft          Float  `json:"ws_left"`
-	WSRight         Float  `json:"ws_right"`
-	Quality         string `json:"quality,omitempty"`
-	WaterSurface    Float  `json:"water_surface"`
-	MarksUsed       int    `json:"marks_used"`
-	Bottom          Float  `json:"bottom"`
-	Area            Float  `json:"area"`
-	WettedPerimeter Float  `json:"wetted_perimeter"`
-	TopWidth        Float  `json:"top_width"`
-	HydraulicDepth  Float  `json:"hydraulic_depth"`
-	Conveyance      Float  `json:"conveyance"`
-	Alpha           Float  `json:"alpha"`
-	Velocity        Float  `json:"velocity"`
-	VelocityHead    Float  `json:"velocity_head"`
-	EnergyGrade     Float  `json:"energy_grade"`
-	Froude          Float  `json:"froude"`
+	ID              string    `json:"id"`
+	Survey          string    `json:"survey,omitempty"`
+	Distance        Float     `json:"distance"`
+	WSLeft          Float     `json:"ws_left"`
+	WSRight         Float     `json:"ws_right"`
+	Quality         string    `json:"quality,omitempty"`
+	WaterSurface    Float     `json:"water_surface"`
+	MarksUsed       int       `json:"marks_used"`
+	Bottom          Float     `json:"bottom"`
+	Area            Float     `json:"area"`
+	WettedPerimeter Float     `json:"wetted_perimeter"`
+	TopWidth        Float     `json:"top_width"`
+	HydraulicDepth  Float     `json:"hydraulic_depth"`
+	Conveyance      Float     `json:"conveyance"`
+	Alpha           Float     `json:"alpha"`
+	Velocity        Float     `json:"velocity"`
+	VelocityHead    Float     `json:"velocity_head"`
+	EnergyGrade     Float     `json:"energy_grade"`
+	Froude          Float     `json:"froude"`
+	Subsections     []jsonSub `json:"subsections"`
 }
 
 type jsonSubreach struct {
@@ -69,6 +70,7 @@ type jsonUncertainty struct {
 	MarkSD Float   `json:"mark_sd"`
 	WSSD   []Float `json:"water_surface_sd"`
 	DQDN   Float   `json:"dq_dn"`
+	DQDNm  Float   `json:"dq_dn_per_0_001_n"`
 	DQDH   []Float `json:"dq_dh"`
 }
 
@@ -76,7 +78,14 @@ type jsonUncertainty struct {
 // {"method","discharge","units","side","fall","length","slope",
 // "subreach_min","subreach_max","subreach_spread","sections":[...],
 // "subreaches":[...],"checks":[...],"uncertainty":{...} or null,
-// "warnings":[...],"caution"}. Undefined values are null.
+// "warnings":[...],"caution"}. Each section holds "subsections", its
+// subsections at the peak discharge (from_station, to_station, region, n,
+// area, wetted_perimeter, top_width, conveyance, discharge, mean_velocity,
+// as in WriteRatingJSON). In "uncertainty", "dq_dn" is the change of
+// discharge per unit change of every n together (discharge unit per 1 of
+// n) and "dq_dn_per_0_001_n" the same per 0.001 of n, as the text report
+// quotes it; "dq_dh" is per length unit of each water surface. Undefined
+// values are null.
 func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 	r := rep.Result
 	out := struct {
@@ -112,7 +121,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 			Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
 			HydraulicDepth: Float(s.HydraulicDepth), Conveyance: Float(s.Conveyance), Alpha: Float(s.Alpha),
 			Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
-			Froude: Float(s.Froude)}
+			Froude: Float(s.Froude), Subsections: jsonSubs(s.Subs)}
 		if i < len(rep.Sections) {
 			js.Survey, js.Quality = rep.Sections[i].Survey, rep.Sections[i].Quality.String()
 		}
@@ -131,7 +140,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 	if u := rep.Uncertainty; u != nil {
 		ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
 			SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
-			MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDH: []Float{}}
+			MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDNm: Float(u.DQDNPerMilli), DQDH: []Float{}}
 		for _, v := range u.DQDH {
 			ju.DQDH = append(ju.DQDH, Float(v))
 		}
@@ -145,7 +154,8 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 }
 
 // WriteSlopeAreaText writes a slope-area report for a reviewer: the
-// estimate and its band first, then the inputs, each section and subreach,
+// estimate and its band first, then the inputs, each section, the n,
+// area and conveyance of every subsection of every section, each subreach,
 // the checks with their sources, the uncertainty settings and
 // sensitivities, the warnings and the caution.
 func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
@@ -214,6 +224,18 @@ func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
 		u.Area(), u.Conveyance(), u.Velocity()), rows)
 
+	line("")
+	line("Subsections at the peak discharge (Manning's n as surveyed)")
+	rows = rows[:0]
+	for _, s := range r.Sections {
+		for k, sub := range s.Subs {
+			rows = append(rows, []string{s.ID, fmt.Sprint(k + 1), sub.Region.String(), fixed(sub.From, 1) + " to " + fixed(sub.To, 1),
+				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), sig(sub.Discharge, 4), fixed(sub.Velocity, 2)})
+		}
+	}
+	table(fmt.Sprintf("section	subsection	region	stations %s	n	area %s	conveyance %s	discharge %s	velocity %s",
+		L, u.Area(), u.Conveyance(), Q, u.Velocity()), rows)
+
 	if len(r.Subreaches) > 0 {
 		line("")
 		line("Subreaches (losses at the peak discharge)")
@@ -257,7 +279,7 @@ func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 		line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
 		line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
 		line("  draws          %d, %d without a solution", un.Draws, un.Failed)
-		line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDN*0.001, 4), Q)
+		line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDNPerMilli, 4), Q)
 		parts := make([]string, len(un.DQDH))
 		for i, v := range un.DQDH {
 			id := ""

@@ -28,6 +28,9 @@ const (
 //     ws_right, quality, note: the columns of a reach table) with the
 //     water surface taken from the marks;
 //   - sections: each section's hydraulics at the peak discharge;
+//   - subsections: every subsection of every section at the peak
+//     discharge: its stations, region, Manning's n, area, wetted
+//     perimeter, top width, conveyance, discharge and velocity;
 //   - subreaches: each pair of adjacent sections alone, and its losses at
 //     the peak discharge;
 //   - checks: each quality check's value, limit, pass or warn (warnings in
@@ -39,7 +42,7 @@ func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	b := newBook("wetline slope-area: " + saReachName(rep))
 	defer b.Close()
 	for _, write := range []func(*workbook.Book, reach.Report) error{
-		writeSASummary, writeSAInputs, writeSASections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
+		writeSASummary, writeSAInputs, writeSASections, writeSASubsections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
 	} {
 		if err := write(b, rep); err != nil {
 			return err
@@ -170,6 +173,37 @@ func writeSASections(b *workbook.Book, rep reach.Report) error {
 	return s.Flush()
 }
 
+func writeSASubsections(b *workbook.Book, rep reach.Report) error {
+	u := rep.Result.Units
+	L := u.Length()
+	s, err := b.Table(SheetSubsections, []workbook.Column{
+		{Name: "section", Width: 12},
+		{Name: "subsection", Format: "0"},
+		{Name: "region", Width: 15},
+		{Name: "from_station", Unit: L, Format: "0.00"},
+		{Name: "to_station", Unit: L, Format: "0.00"},
+		{Name: "n", Format: "0.000"},
+		{Name: "area", Unit: u.Area(), Format: workbook.FormatSig3},
+		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
+		{Name: "top_width", Unit: L, Format: "0.00"},
+		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
+		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
+		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, sec := range rep.Result.Sections {
+		for i, sr := range sec.Subs {
+			if err := s.Row(sec.ID, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
+				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
+				return err
+			}
+		}
+	}
+	return s.Flush()
+}
+
 func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
@@ -264,6 +298,7 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		{"coefficient of variation of n (log-normal)", nil, un.NCV, ""},
 		{"standard deviation of one mark (normal)", nil, un.MarkSD, L},
 		{"dQ/dn, every n together", nil, un.DQDN, Q + " per unit n"},
+		{"dQ/dn, every n together, per 0.001 of n", nil, un.DQDNPerMilli, Q + " per 0.001 n"},
 	}
 	for i, sec := range r.Sections {
 		if i < len(un.WaterSurfaceSD) {

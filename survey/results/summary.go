@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"io"
+	"math"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -96,6 +97,29 @@ func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 		}
 	}
 	fmt.Fprintf(bw, ", %d of %d checks warn\n", warn, len(r.Checks))
+	return endSummary(bw, rep.Warnings)
+}
+
+// WriteBackwaterSummary says that a step-backwater report was written to
+// path: the discharges, the rating section's stage range and how many
+// reads still depend on the boundary.
+func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) error {
+	bw := bufio.NewWriter(w)
+	r := rep.Result
+	u := r.Units
+	fmt.Fprintf(bw, "wrote %s: %d profile(s) from %s", path, len(r.Profiles), BackwaterBoundaryWords(rep))
+	lo, hi := math.Inf(1), math.Inf(-1)
+	unsettled := 0
+	for _, rd := range r.Rating.Rows {
+		lo, hi = math.Min(lo, rd.Stage), math.Max(hi, rd.Stage)
+		if rd.Unsettled {
+			unsettled++
+		}
+	}
+	if len(r.Rating.Rows) > 0 {
+		fmt.Fprintf(bw, "; at %s stages %.3f to %.3f %s", r.Rating.Section, lo, hi, u.Length())
+	}
+	fmt.Fprintf(bw, ", %d of %d reads unsettled\n", unsettled, len(r.Rating.Rows))
 	return endSummary(bw, rep.Warnings)
 }
 
