@@ -28,6 +28,9 @@ func fitRun(t *testing.T, args ...string) (string, string, error) {
 const (
 	fitDemoGaugings = "demodata/tallow-gaugings.csv"
 	fitDemoSurvey   = "demodata/tallow-xs1.csv"
+	// fitDemoRatingTable is the demo section's hydraulic rating as rate
+	// writes it (rate demodata/tallow-xs1.csv --slope 0.0012 --format csv).
+	fitDemoRatingTable = "testdata/tallow-xs1-rating.csv"
 )
 
 func TestFitGolden(t *testing.T) {
@@ -37,9 +40,13 @@ func TestFitGolden(t *testing.T) {
 		args []string
 	}{
 		{"fit-demo.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}},
-		{"fit-demo-2seg.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only"}},
+		{"fit-demo-lsq.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq"}},
+		{"fit-demo-2seg.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only", "--method", "lsq"}},
 		{"fit-demo-control.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--zero-flow", "control", "--format", "csv"}},
 		{"fit-demo-compare.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--compare-only", "--format", "csv"}},
+		{"fit-demo-table.txt", []string{"fit", fitDemoGaugings, "--hydraulic-rating", fitDemoRatingTable, "--datum", "100", "--method", "lsq", "--step", "0.2"}},
+		{"fit-demo-select.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq",
+			"--exclude", "2019-07-15T12:45,2020-09-28T09:30", "--period", "2019-06-01..2023-12-31", "--step", "0.5"}},
 		{"fit-nosection.txt", []string{"fit", fitDemoGaugings, "--zero-flow", "0.3", "--step", "0.25"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -136,8 +143,29 @@ func TestFitUsageErrors(t *testing.T) {
 		{"fit", fitDemoGaugings, "--compare-only"},
 		{"fit", fitDemoGaugings, "--zero-flow", "control"},
 		{"fit", fitDemoGaugings, "--zero-flow", "low"},
-		{"fit", fitDemoGaugings, "--segments", "4"},
+		{"fit", fitDemoGaugings, "--segments", "5"},
+		{"fit", fitDemoGaugings, "--controls", "0"},
 		{"fit", fitDemoGaugings, "--segments", "3", "--breaks", "1"},
+		{"fit", fitDemoGaugings, "--segments", "2", "--controls", "3"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--kinds", "channel"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--kinds", "channel,weir"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--joints", "add,add"},
+		{"fit", fitDemoGaugings, "--controls", "3", "--joints", "add"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--joints", "join"},
+		{"fit", fitDemoGaugings, "--method", "mcmc"},
+		{"fit", fitDemoGaugings, "--method", "lsq", "--draws", "100"},
+		{"fit", fitDemoGaugings, "--method", "lsq", "--show-unconverged"},
+		{"fit", fitDemoGaugings, "--draws", "0"},
+		{"fit", fitDemoGaugings, "--n-cv", "0.1"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--n-cv", "-0.1"},
+		{"fit", fitDemoGaugings, "--crest-cv", "0.1"},
+		{"fit", fitDemoGaugings, "--datum", "100"},
+		{"fit", fitDemoGaugings, "--hydraulic-rating-sheet", "x"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--hydraulic-rating", "r.csv"},
+		{"fit", fitDemoGaugings, "--exclude", "yesterday"},
+		{"fit", fitDemoGaugings, "--period", "2020-01-01"},
+		{"fit", fitDemoGaugings, "--period", "2021-01-01..2020-01-01"},
+		{"fit", fitDemoGaugings, "--period", "..2020-13-01"},
 		{"fit", fitDemoGaugings, "--format", "xml"},
 		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only", "--segments", "2"},
 		{"rate", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"},
@@ -151,16 +179,35 @@ func TestFitUsageErrors(t *testing.T) {
 }
 
 // Refusing to extrapolate past the section's lower end (104.8 m, gauge
-// height 4.8 m) or above the gaugings without a section.
+// height 4.8 m); without a section the fitted controls are carried above
+// the gaugings only when asked (--to), each row saying how far.
 func TestFitRefusesPastSection(t *testing.T) {
 	t.Parallel()
 	_, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "5")
 	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
 		t.Errorf("past the section: err = %v", err)
 	}
-	_, _, err = fitRun(t, "fit", fitDemoGaugings, "--to", "3.5")
-	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
-		t.Errorf("no section: err = %v", err)
+	for _, method := range []string{"bayes", "lsq"} {
+		out, _, err := fitRun(t, "fit", fitDemoGaugings, "--to", "3.5", "--method", method, "--format", "json")
+		if err != nil {
+			t.Fatalf("%s: %v", method, err)
+		}
+		var doc struct {
+			Table []struct {
+				Stage, Discharge float64
+				Basis            string
+				Multiple         *float64 `json:"gauged_multiple"`
+				TotalLower       *float64 `json:"total_lower_95"`
+			}
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		last := doc.Table[len(doc.Table)-1]
+		// The largest demo gauging is 66.1 m³/s at 2.96 m (demodata).
+		if last.Stage != 3.5 || last.Basis != "fit above gaugings" || last.Multiple == nil || math.Abs(*last.Multiple-last.Discharge/66.1) > 1e-9 || last.TotalLower == nil {
+			t.Errorf("%s: last row %+v", method, last)
+		}
 	}
 }
 
@@ -237,7 +284,7 @@ func TestFitWorkbookGaugings(t *testing.T) {
 	if err := f.SaveAs(path); err != nil {
 		t.Fatal(err)
 	}
-	out, _, err := fitRun(t, "fit", path, "--format", "json")
+	out, _, err := fitRun(t, "fit", path, "--format", "json", "--method", "lsq")
 	if err != nil {
 		t.Fatal(err)
 	}
