@@ -241,7 +241,7 @@ func TestRateCalibrate(t *testing.T) {
 func TestDemoWritesFit(t *testing.T) {
 	t.Parallel()
 	dir, out := demoOutput(t)
-	for _, name := range []string{"tallow-gaugings.csv", "tallow-fit.txt", "tallow-fit.json", "tallow-fit-table.csv"} {
+	for _, name := range []string{"tallow-gaugings.csv", "tallow-fit.txt", "tallow-fit.json", "tallow-fit-table.csv", "tallow-fit-lsq.txt", "tallow-fit.png", "tallow-lsq-fit.png", "tallow-fit.xlsx"} {
 		if !strings.Contains(out, name) {
 			t.Errorf("demo output does not list %s", name)
 		}
