@@ -166,7 +166,8 @@ func fitPlot(rep *gauged.Report, site string) RatingPlot {
 		}
 		rp.Gaugings = append(rp.Gaugings, pg)
 	}
-	rp.Notes = append(rp.Notes, "error bars: each gauging's 95 % uncertainty ("+gauged.UncertaintyConvention()+")")
+	rp.Notes = append(rp.Notes, fmt.Sprintf("error bars: each gauging's uncertainty at 95 %% (its uncertainty column, else its quality grade: excellent %g %%, good %g %%, fair %g %%, poor %g %%, unrated %g %%)",
+		rating.Excellent.WeightPercent(), rating.Good.WeightPercent(), rating.Fair.WeightPercent(), rating.Poor.WeightPercent(), rating.Unrated.WeightPercent()))
 	rp.Subtitle = strings.Join(sub, "; ")
 	return rp
 }

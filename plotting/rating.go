@@ -186,11 +186,18 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	addCurve(lin, fit, fitLabel, colFitted, 1.8, 0, false)
 	addStyledCurve(lin, ext, extLabel, lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)), 0, false)
 	addGaugings(lin, gaugings, 0, false)
-	// A rating rises to the right: the upper left stays empty.
+	// A rating rises to the right: the upper left stays empty, unless a
+	// fit reaches far above its gaugings with its bands; then the lower
+	// right, below the curve bending over at high flows, is emptier (the
+	// legend is lifted clear of the zero-flow line's label).
 	lin.Legend.Top = true
 	lin.Legend.Left = true
 	lin.Legend.XOffs = vg.Points(8)
 	lin.Legend.YOffs = -vg.Points(6)
+	if len(band)+len(total)+len(ext) > 0 {
+		lin.Legend.Top, lin.Legend.Left = false, false
+		lin.Legend.XOffs, lin.Legend.YOffs = -vg.Points(8), vg.Points(20)
+	}
 	if lin.X.Min > 0 {
 		lin.X.Min = 0 // discharge from zero, unless data lie below it
 	}
