@@ -119,7 +119,7 @@ func waterSurfaces(t rating.Table, bankfull float64, hasBankfull bool) []WaterSu
 // Stages are gauge heights.
 func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: base}
-	rp := fitPlot(rep, site)
+	rp := FitPlot(rep, site)
 	rp.Size = size
 	if err := set.add("fit", "gaugings against the hydraulic and fitted ratings, with both 95 % bands", func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
@@ -129,8 +129,13 @@ func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure,
 	return set.figs, set.warnings, nil
 }
 
-// fitPlot lays out a gaugings report as a rating plot.
-func fitPlot(rep *gauged.Report, site string) RatingPlot {
+// FitPlot lays out a gaugings report as the rating plot DrawFit draws:
+// the hydraulic rating, the fitted controls (their table's rows, dashed
+// where extrapolated), the hydraulic extension (conveyance-slope rows),
+// the prior rating of a Bayesian fit, both bands at every row that has
+// them, and the gaugings with bars at their uncertainty, those left out
+// of the fit marked Excluded. site titles it.
+func FitPlot(rep *gauged.Report, site string) RatingPlot {
 	rp := RatingPlot{Site: site, Section: rep.Site, Units: rep.Units}
 	var sub []string
 	if rep.Curve != nil {

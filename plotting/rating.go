@@ -218,15 +218,18 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		lg := newPanel(fmt.Sprintf("Log–log: stage above zero flow, e = %s %s", fmtStage(e), un.length),
 			"Discharge, "+un.discharge, "h − e, "+un.length)
 		omitted, warned := 0, 0
-		for _, c := range [][]RatingPoint{hyd, fit, ext} {
+		for i, c := range [][]RatingPoint{hyd, fit, ext} {
 			for _, p := range c {
 				if p.Stage-e > 0 && p.Discharge > 0 {
 					continue
 				}
 				omitted++
 				// A dry point at or below e is what a rating should
-				// have; flow at or below e, or negative flow, is not.
-				if !(p.Discharge == 0 && p.Stage <= e) {
+				// have, and so is the dry foot of a hydraulic rating
+				// whatever e a fit puts beside it; flow at or below e,
+				// or negative flow, is not.
+				dry := p.Discharge == 0 && (p.Stage <= e || i == 0)
+				if !dry {
 					warned++
 				}
 			}

@@ -71,7 +71,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
 	fs.BoolVar(&f.compareOnly, "compare-only", false, "compare the gaugings with the hydraulic rating and fit nothing")
 	fs.StringVar(&f.method, "method", "bayes", "how the rating is fitted: bayes (Bayesian, priors from the survey) or lsq (weighted least squares)")
-	fs.IntVar(&f.controls, "controls", 0, fmt.Sprintf("number of controls, 1 to %d, each Q = A·(h − B)^C with its own offset (default 1, or one more than --breaks; a Bayesian fit on a section whose overbanks flow below the table's top adds a floodplain control at the bank stage unless --controls, --breaks, --kinds or --joints is given)", gauged.MaxControls))
+	fs.IntVar(&f.controls, "controls", 0, fmt.Sprintf("number of controls, 1 to %d, each Q = A·(h − B)^C with its own offset (default 1, or one more than --breaks; a Bayesian fit on a section whose overbanks flow below the table's top adds a floodplain control at the bank stage unless --controls, --breaks, --kinds, --joints or --control-section is given)", gauged.MaxControls))
 	fs.IntVar(&f.segments, "segments", 0, "the same as --controls (the name of earlier versions)")
 	fs.Var(&f.breaks, "breaks", "given breakpoints (gauge heights), comma-separated, instead of fitted ones")
 	fs.StringVar(&f.kinds, "kinds", "", "what each control is, comma-separated: section (riffle, weir crest), channel or unknown (default: channel with a section or hydraulic rating, section for the first with --control-section, else unknown)")
@@ -274,7 +274,7 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 		return opt, err
 	}
 	opt.Controls.Selection = sel
-	opt.Floodplain = true
+	opt.Floodplain = f.controlSection == ""
 	for _, name := range []string{"controls", "segments", "breaks", "kinds", "joints"} {
 		opt.Floodplain = opt.Floodplain && !fs.Changed(name)
 	}

@@ -794,16 +794,17 @@ func (b *bayesProblem) overdispersed(x []float64, l *mat.TriDense, rnd *rand.Ran
 }
 
 // exponentBounds returns the exponents each control may take without a
-// warning: its kind's range (ExponentRange), widened to two prior
-// standard deviations about the exponent of the section's own rating
-// when its prior came from the survey (a floodplain or an odd section
-// may ask for more than a prismatic shape allows).
+// warning: its kind's range (ExponentRange), and for a control that adds
+// (a floodplain, whose width grows from nothing at the bank faster than
+// any prismatic shape's) with its prior from the survey, that range
+// widened to two prior standard deviations about the exponent of the
+// overbanks' own rating.
 func (b *bayesProblem) exponentBounds() []ExponentBounds {
 	out := make([]ExponentBounds, b.m.k())
 	for j := range out {
 		lo, hi := ExponentRange(b.m.kinds[j])
 		out[j] = ExponentBounds{Low: lo, High: hi}
-		if p := b.priors[b.m.iC(j)]; b.informative[j] && finite(p.mean) && finite(p.sd) {
+		if p := b.priors[b.m.iC(j)]; j > 0 && b.m.joints[j] == Add && b.informative[j] && finite(p.mean) && finite(p.sd) {
 			out[j].Low = math.Min(lo, p.mean-2*p.sd)
 			out[j].High = math.Max(hi, p.mean+2*p.sd)
 			out[j].Survey = true

@@ -336,7 +336,7 @@ func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	if h > f.HighStage && f.MaxDischarge > 0 {
 		r.Multiple = r.Discharge / f.MaxDischarge
 	}
-	if t.BandsWithheld {
+	if t.BandsWithheld || !bands {
 		nan := math.NaN()
 		r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = nan, nan, nan, nan
 	}

@@ -189,7 +189,16 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 		LogCoefficient: ParamPrior{Mean: lnA, SD: sdA},
 		Exponent:       ParamPrior{Mean: cc, SD: HydraulicExponentSD},
 		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - bottom)},
-		Source: fmt.Sprintf("%s from %.4g to %.4g (Q = %.4g·(h − %.4g)^%.3g, n cv %.2g, slope cv %.2g)",
-			what, from, to, math.Exp(lnA), b, cc, ncv, scv),
+		Source: fmt.Sprintf("%s from %.4g to %.4g (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
+			what, from, to, math.Exp(lnA), depthAbove(b), cc, ncv, scv),
 	}, nil
+}
+
+// depthAbove writes (h − b) for an offset b, (h + |b|) when it is
+// negative.
+func depthAbove(b float64) string {
+	if b < 0 {
+		return fmt.Sprintf("(h + %.4g)", -b)
+	}
+	return fmt.Sprintf("(h − %.4g)", b)
 }
