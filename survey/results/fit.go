@@ -647,7 +647,10 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		p(" %10s %8s %8s", "fitted", "dep. %", "shift")
 	}
 	if r.Comparison != nil {
-		p(" %10s %8s %8s %8s %7s", "hydraulic", "dep. %", "shift", "n factor", "n")
+		p(" %10s %8s %8s", "hydraulic", "dep. %", "shift")
+	}
+	if r.Calibration != nil {
+		p(" %8s %7s", "n factor", "n")
 	}
 	p("\n")
 	var reasons []string
@@ -663,8 +666,11 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
+			p(" %10s %7s%s %8s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3))
+		}
+		if r.Calibration != nil {
 			f, n := calPoint(r, i)
-			p(" %10s %7s%s %8s %8s %7s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3), fixed(f, 3), fixed(n, 4))
+			p(" %8s %7s", fixed(f, 3), fixed(n, 4))
 		}
 		if reason != "" {
 			p(" x")
