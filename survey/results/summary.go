@@ -69,6 +69,9 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), standard error %s %%\n",
 			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, fixed(f.StandardErrorPercent, 1))
 	}
+	if r.Fit != nil {
+		fmt.Fprintf(bw, "  uncertainty convention: %s\n", gauged.UncertaintyConvention())
+	}
 	if c := r.Comparison; c != nil {
 		fmt.Fprintf(bw, "  against the hydraulic rating: %d of %d outside their quality bands\n", c.Outside, len(c.Residuals))
 	}
