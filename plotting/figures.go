@@ -121,7 +121,11 @@ func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure,
 	set := &figureSet{base: base}
 	rp := FitPlot(rep, site)
 	rp.Size = size
-	if err := set.add("fit", "gaugings against the hydraulic and fitted ratings, with both 95 % bands", func(w io.Writer) (Result, error) {
+	caption := "gaugings against the hydraulic and fitted ratings, with both 95 % bands"
+	if rep.Table == nil {
+		caption = "gaugings against the hydraulic rating"
+	}
+	if err := set.add("fit", caption, func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
 	}); err != nil {
 		return nil, nil, err
