@@ -121,13 +121,20 @@ func waterSurfaces(t rating.Table, datum, bankfull float64, hasBankfull bool) []
 }
 
 // DrawFit draws the rating figure of a gaugings report: the gaugings by
-// quality against the hydraulic rating and the fitted rating
-// (extrapolated rows dashed) with its band. Stages are gauge heights.
+// quality with error bars at their uncertainty (those left out of the fit
+// hollow) against the hydraulic rating, the fitted controls (dashed where
+// extrapolated), the hydraulic extension above the gaugings, the prior of
+// a Bayesian fit, and both 95 % bands shaded along the whole table.
+// Stages are gauge heights.
 func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: base}
-	rp := fitPlot(rep, site)
+	rp := FitPlot(rep, site)
 	rp.Size = size
-	if err := set.add("fit", "gaugings against the hydraulic and fitted ratings, with the fit's band", func(w io.Writer) (Result, error) {
+	caption := "gaugings against the hydraulic and fitted ratings, with both 95 % bands"
+	if rep.Table == nil {
+		caption = "gaugings against the hydraulic rating"
+	}
+	if err := set.add("fit", caption, func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
 	}); err != nil {
 		return nil, nil, err
@@ -135,41 +142,98 @@ func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure,
 	return set.figs, set.warnings, nil
 }
 
-// fitPlot lays out a gaugings report as a rating plot.
-func fitPlot(rep *gauged.Report, site string) RatingPlot {
+// FitPlot lays out a gaugings report as the rating plot DrawFit draws:
+// the hydraulic rating, the fitted controls (their table's rows, dashed
+// where extrapolated), the hydraulic extension (conveyance-slope rows),
+// the prior rating of a Bayesian fit, both bands at every row that has
+// them, and the gaugings with bars at their uncertainty, those left out
+// of the fit marked Excluded. site titles it.
+func FitPlot(rep *gauged.Report, site string) RatingPlot {
 	rp := RatingPlot{Site: site, Section: rep.Site, Units: rep.Units}
 	var sub []string
 	if rep.Curve != nil {
 		c := Curve{Label: fmt.Sprintf("hydraulic rating (Manning, slope %g)", rep.Slope)}
+		if rep.Hydraulic == nil {
+			c.Label = "hydraulic rating (" + rep.HydraulicSource + ")"
+		}
 		for _, p := range rep.Curve {
 			c.Points = append(c.Points, RatingPoint{Stage: p.Stage, Discharge: p.Hydraulic})
 		}
 		rp.Hydraulic = c
-		sub = append(sub, fmt.Sprintf("gauge heights; gauge zero at elevation %g %s", rep.Datum, rep.Units.Length()))
+		if rep.Hydraulic != nil {
+			sub = append(sub, fmt.Sprintf("gauge heights; gauge zero at elevation %g %s", rep.Datum, rep.Units.Length()))
+		}
 	}
 	if t := rep.Table; t != nil {
-		c := Curve{Label: "fitted rating Q = C(h − e)^b"}
-		for _, r := range t.Rows {
-			c.Points = append(c.Points, RatingPoint{Stage: r.Stage, Discharge: r.Discharge, Extrapolated: r.Extrapolated()})
-			if !math.IsNaN(r.Lower) && !math.IsNaN(r.Upper) {
-				rp.Band = append(rp.Band, BandPoint{Stage: r.Stage, Low: r.Lower, High: r.Upper})
-			}
-		}
-		rp.Fitted = c
-		rp.BandLabel = "95 % band of the fitted mean relation"
-		if t.ScaleNote != "" {
-			rp.Notes = append(rp.Notes, t.ScaleNote)
-		}
+		fitTablePlot(&rp, rep, t)
 	}
 	if f := rep.Fit; f != nil {
-		rp.ZeroFlow, rp.HasZeroFlow = f.ZeroFlow, true
-		sub = append(sub, fmt.Sprintf("%d-segment power-law fit, standard error %.1f %%", len(f.Segments), f.StandardErrorPercent))
+		rp.ZeroFlow, rp.HasZeroFlow = f.Controls[0].B, true
+		method := "least-squares"
+		if f.Method == gauged.Bayesian {
+			method = "Bayesian"
+		}
+		sub = append(sub, fmt.Sprintf("%s fit of %d control(s), standard error %.1f %%", method, len(f.Controls), f.StandardErrorPercent))
 	}
-	for _, g := range rep.Gaugings {
-		rp.Gaugings = append(rp.Gaugings, Gauging{Stage: g.Stage, Discharge: g.Discharge, Quality: g.Quality})
+	for i, g := range rep.Gaugings {
+		pg := Gauging{Stage: g.Stage, Discharge: g.Discharge, Quality: g.Quality, Uncertainty: g.UncertaintyPercent()}
+		if rep.Fit != nil {
+			pg.Excluded = rep.Fit.Residuals[i].Excluded
+		} else {
+			pg.Excluded = rep.Selection.Reason(g) != ""
+		}
+		rp.Gaugings = append(rp.Gaugings, pg)
 	}
+	rp.Notes = append(rp.Notes, fmt.Sprintf("error bars: each gauging's uncertainty at 95 %% (its uncertainty column, else its quality grade: excellent %g %%, good %g %%, fair %g %%, poor %g %%, unrated %g %%)",
+		rating.Excellent.WeightPercent(), rating.Good.WeightPercent(), rating.Fair.WeightPercent(), rating.Poor.WeightPercent(), rating.Unrated.WeightPercent()))
 	rp.Subtitle = strings.Join(sub, "; ")
 	return rp
+}
+
+// fitTablePlot lays out the table of a fit: the fitted controls, the
+// hydraulic extension, the prior and both bands.
+func fitTablePlot(rp *RatingPlot, rep *gauged.Report, t *gauged.ControlTable) {
+	f := rep.Fit
+	bayes := f.Method == gauged.Bayesian
+	fit := Curve{Label: "fitted controls (least squares)"}
+	rp.BandLabel, rp.TotalBandLabel = "95 % band of the mean relation", "95 % prediction band of one discharge"
+	if bayes {
+		fit.Label = "fitted controls (posterior mode)"
+		rp.BandLabel, rp.TotalBandLabel = "95 % parametric band (the relation)", "95 % total band (relation and remnant error)"
+	}
+	ext := Curve{Label: "hydraulic extension (conveyance-slope)"}
+	for i, r := range t.Rows {
+		pt := RatingPoint{Stage: r.Stage, Discharge: r.Discharge, Extrapolated: r.Extrapolated()}
+		if r.Basis == gauged.ConveyanceSlopeAbove {
+			if len(ext.Points) == 0 && i > 0 {
+				prev := t.Rows[i-1]
+				ext.Points = append(ext.Points, RatingPoint{Stage: prev.Stage, Discharge: prev.Discharge})
+			}
+			ext.Points = append(ext.Points, pt)
+		} else {
+			fit.Points = append(fit.Points, pt)
+		}
+		if finite(r.ParametricLower, r.ParametricUpper) {
+			rp.Band = append(rp.Band, BandPoint{Stage: r.Stage, Low: r.ParametricLower, High: r.ParametricUpper})
+		}
+		if finite(r.TotalLower, r.TotalUpper) {
+			rp.TotalBand = append(rp.TotalBand, BandPoint{Stage: r.Stage, Low: r.TotalLower, High: r.TotalUpper})
+		}
+	}
+	rp.Fitted, rp.Extension = fit, ext
+	if rep.Prior != nil {
+		pr := Curve{Label: "prior of the controls, from the survey (before the gaugings)"}
+		for _, r := range t.Rows {
+			pr.Points = append(pr.Points, RatingPoint{Stage: r.Stage, Discharge: rep.Prior.Discharge(r.Stage)})
+		}
+		rp.Prior = pr
+	}
+	if t.AboveNote != "" {
+		rp.Notes = append(rp.Notes, t.AboveNote)
+	}
+	if t.BandsWithheld {
+		rp.Notes = append(rp.Notes, "bands withheld: the chains disagree (R̂ above the limit)")
+	}
 }
 
 // DrawReach draws the reach profile and the sections overlaid of a

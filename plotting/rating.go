@@ -51,6 +51,12 @@ type Gauging struct {
 	Discharge float64
 	// Quality is the measurement's rated quality.
 	Quality rating.Quality
+	// Uncertainty is the half-width of the gauging's error bar in percent
+	// of its discharge (its expanded uncertainty at 95 %); 0 draws the
+	// quality's band (none for poor or unrated gaugings).
+	Uncertainty float64
+	// Excluded draws the gauging hollow and grey: left out of the fit.
+	Excluded bool
 }
 
 // qualityBand returns the percent band of a gauging's quality, and false
@@ -62,6 +68,22 @@ func qualityBand(q rating.Quality) (float64, bool) {
 	}
 	return 0, false
 }
+
+// barPercent is the half-width of a gauging's error bar in percent, and
+// false when it has none.
+func (g Gauging) barPercent(q rating.Quality) (float64, bool) {
+	if g.Uncertainty > 0 && !math.IsInf(g.Uncertainty, 0) {
+		return g.Uncertainty, true
+	}
+	return qualityBand(q)
+}
+
+// Colours of the lines of a fitted rating figure beyond the style's own.
+var (
+	colTotalBand = color.NRGBA{R: 0xf3, G: 0xd2, B: 0xb0, A: 0x70} // paler copper, translucent
+	colExtension = color.NRGBA{R: 0x7a, G: 0x3a, B: 0x12, A: 0xff} // dark copper
+	colPrior     = color.NRGBA{R: 0x6f, G: 0x8f, B: 0x3a, A: 0xff} // olive
+)
 
 // RatingPlot is a stage–discharge rating figure: a panel of stage
 // against discharge on linear axes and, when a gauge height of zero flow
@@ -82,6 +104,18 @@ type RatingPlot struct {
 	Band []BandPoint
 	// BandLabel names the band in the legend (default "95 % confidence band").
 	BandLabel string
+	// TotalBand is a wider band (of a single discharge: the relation and
+	// its remnant or scatter), drawn paler under Band; TotalBandLabel
+	// names it (default "95 % total band").
+	TotalBand      []BandPoint
+	TotalBandLabel string
+	// Extension is a hydraulic extension of the fitted rating above the
+	// gaugings (dark copper, dash-dot), labelled by its own Label
+	// (default "hydraulic extension").
+	Extension Curve
+	// Prior is the rating the priors describe before the gaugings (thin
+	// olive dots), labelled by its Label (default "prior").
+	Prior Curve
 	// Gaugings are measurements drawn as points, their shape by quality,
 	// with a horizontal bar spanning their quality band.
 	Gaugings []Gauging
@@ -115,7 +149,8 @@ type RatingPlot struct {
 func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	var res Result
 	hyd, fit := cleanCurve(r.Hydraulic), cleanCurve(r.Fitted)
-	band := cleanBand(r.Band)
+	ext, pri := cleanCurve(r.Extension), cleanCurve(r.Prior)
+	band, total := cleanBand(r.Band), cleanBand(r.TotalBand)
 	var gaugings []Gauging
 	for _, g := range r.Gaugings {
 		if finite(g.Stage, g.Discharge) {
@@ -125,7 +160,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	if n := len(r.Gaugings) - len(gaugings); n > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gauging(s) with a missing stage or discharge left out", n))
 	}
-	if len(hyd)+len(fit)+len(gaugings) == 0 {
+	if len(hyd)+len(fit)+len(ext)+len(gaugings) == 0 {
 		return res, fmt.Errorf("%w: the rating figure needs a curve or gaugings", ErrNoData)
 	}
 	un := names(r.Units)
@@ -139,23 +174,30 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	hydLabel := orDefault(r.Hydraulic.Label, "hydraulic rating (Manning)")
 	fitLabel := orDefault(r.Fitted.Label, "fitted rating")
 	bandLabel := orDefault(r.BandLabel, "95 % confidence band")
+	totalLabel := orDefault(r.TotalBandLabel, "95 % total band")
+	extLabel := orDefault(r.Extension.Label, "hydraulic extension")
+	priorLabel := orDefault(r.Prior.Label, "prior")
 
 	lin := newPanel("Stage–discharge", "Discharge, "+un.discharge, "Stage, "+un.length)
 	addGrid(lin)
-	if len(band) > 1 {
-		if poly := bandPolygon(band, 0, false); poly != nil {
-			lin.Add(poly)
-			lin.Legend.Add(bandLabel, poly)
-		}
-	}
+	addBands(lin, total, band, totalLabel, bandLabel, 0, false)
 	addCurve(lin, hyd, hydLabel, colHydraulic, 2.2, 0, false)
+	addStyledCurve(lin, pri, priorLabel, lineStyle(colPrior, 1.4, vg.Points(1.5), vg.Points(3)), 0, false)
 	addCurve(lin, fit, fitLabel, colFitted, 1.8, 0, false)
+	addStyledCurve(lin, ext, extLabel, lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)), 0, false)
 	addGaugings(lin, gaugings, 0, false)
-	// A rating rises to the right: the upper left stays empty.
+	// A rating rises to the right: the upper left stays empty, unless a
+	// fit reaches far above its gaugings with its bands; then the lower
+	// right, below the curve bending over at high flows, is emptier (the
+	// legend is lifted clear of the zero-flow line's label).
 	lin.Legend.Top = true
 	lin.Legend.Left = true
 	lin.Legend.XOffs = vg.Points(8)
 	lin.Legend.YOffs = -vg.Points(6)
+	if len(band)+len(total)+len(ext) > 0 {
+		lin.Legend.Top, lin.Legend.Left = false, false
+		lin.Legend.XOffs, lin.Legend.YOffs = -vg.Points(8), vg.Points(20)
+	}
 	if lin.X.Min > 0 {
 		lin.X.Min = 0 // discharge from zero, unless data lie below it
 	}
@@ -176,15 +218,18 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		lg := newPanel(fmt.Sprintf("Log–log: stage above zero flow, e = %s %s", fmtStage(e), un.length),
 			"Discharge, "+un.discharge, "h − e, "+un.length)
 		omitted, warned := 0, 0
-		for _, c := range [][]RatingPoint{hyd, fit} {
+		for i, c := range [][]RatingPoint{hyd, fit, ext} {
 			for _, p := range c {
 				if p.Stage-e > 0 && p.Discharge > 0 {
 					continue
 				}
 				omitted++
 				// A dry point at or below e is what a rating should
-				// have; flow at or below e, or negative flow, is not.
-				if !(p.Discharge == 0 && p.Stage <= e) {
+				// have, and so is the dry foot of a hydraulic rating
+				// whatever e a fit puts beside it; flow at or below e,
+				// or negative flow, is not.
+				dry := p.Discharge == 0 && (p.Stage <= e || i == 0)
+				if !dry {
 					warned++
 				}
 			}
@@ -207,20 +252,18 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 				warned, fmtStage(e), un.length))
 		}
 		addGrid(lg)
-		if len(band) > 1 {
-			if poly := bandPolygon(band, e, true); poly != nil {
-				lg.Add(poly)
-			}
-		}
+		addBands(lg, total, band, "", "", e, true)
 		n := addCurve(lg, hyd, "", colHydraulic, 2.2, e, true)
+		addStyledCurve(lg, pri, "", lineStyle(colPrior, 1.4, vg.Points(1.5), vg.Points(3)), e, true)
 		n += addCurve(lg, fit, "", colFitted, 1.8, e, true)
+		n += addStyledCurve(lg, ext, "", lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)), e, true)
 		n += addGaugings(lg, gaugings, e, true)
 		if n == 0 {
 			res.Warnings = append(res.Warnings, "log–log panel: no point lies above the gauge height of zero flow; panel left out")
 		} else {
 			lg.X.Scale, lg.Y.Scale = plot.LogScale{}, plot.LogScale{}
 			lg.X.Tick.Marker, lg.Y.Tick.Marker = LogTicks125{}, LogTicks125{}
-			xlo, xhi, ylo, yhi := logExtent(hyd, fit, band, gaugings, e)
+			xlo, xhi, ylo, yhi := logExtent(append(hyd, ext...), fit, append(band, total...), gaugings, e)
 			lg.X.Min, lg.X.Max = logRange(xlo, xhi)
 			lg.Y.Min, lg.Y.Max = logRange(ylo, yhi)
 			panels = append(panels, lg)
@@ -309,6 +352,57 @@ func logExtent(hyd, fit []RatingPoint, band []BandPoint, gs []Gauging, e float64
 		}
 	}
 	return
+}
+
+// addBands draws the total band under the narrower one, each labelled in
+// the legend when its label is not empty.
+func addBands(p *plot.Plot, total, band []BandPoint, totalLabel, bandLabel string, e float64, logv bool) {
+	for _, b := range []struct {
+		pts   []BandPoint
+		label string
+		c     color.Color
+	}{{total, totalLabel, colTotalBand}, {band, bandLabel, colBand}} {
+		if len(b.pts) < 2 {
+			continue
+		}
+		if poly := bandPolygon(b.pts, e, logv); poly != nil {
+			poly.Color = b.c
+			p.Add(poly)
+			if b.label != "" {
+				p.Legend.Add(b.label, poly)
+			}
+		}
+	}
+}
+
+// addStyledCurve draws a curve in one line style (on the log panel:
+// discharge against stage − e, positive values only), labelled in the
+// legend when label is not empty. It returns the number of points drawn.
+func addStyledCurve(p *plot.Plot, pts []RatingPoint, label string, style draw.LineStyle, e float64, logv bool) int {
+	var xy plotter.XYs
+	for _, q := range pts {
+		y := q.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && q.Discharge > 0) {
+				continue
+			}
+		}
+		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
+	}
+	if len(xy) < 2 {
+		return 0
+	}
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return 0
+	}
+	l.LineStyle = style
+	p.Add(l)
+	if label != "" {
+		p.Legend.Add(label, l)
+	}
+	return len(xy)
 }
 
 // addCurve draws a curve on p (on the log panel: discharge against
@@ -451,10 +545,35 @@ func qualityName(q rating.Quality) string {
 	return q.String()
 }
 
-// addGaugings draws the gaugings grouped by quality, each with its
-// quality band as a horizontal bar. It returns the number drawn.
+// hollowStyle is the hollow, grey form of a quality's marker, for a
+// gauging left out of the fit.
+func hollowStyle(q rating.Quality) draw.GlyphStyle {
+	st := gaugingStyle(q)
+	st.Color = colMuted
+	switch st.Shape.(type) {
+	case draw.CircleGlyph:
+		st.Shape = draw.RingGlyph{}
+	case draw.BoxGlyph:
+		st.Shape = draw.SquareGlyph{}
+	case draw.PyramidGlyph:
+		st.Shape = draw.TriangleGlyph{}
+	}
+	return st
+}
+
+// gaugingKey groups gaugings for drawing: by quality, and apart when
+// excluded.
+type gaugingKey struct {
+	q        rating.Quality
+	excluded bool
+}
+
+// addGaugings draws the gaugings grouped by quality, each with an error
+// bar at its uncertainty (or quality band), those left out of the fit
+// hollow and grey. It returns the number drawn.
 func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
-	groups := map[rating.Quality]plotter.XYs{}
+	groups := map[gaugingKey]plotter.XYs{}
+	pcts := map[gaugingKey]map[float64]bool{} // bar half-widths in each group
 	var bars []hbar
 	n := 0
 	for _, g := range gs {
@@ -469,33 +588,55 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 		if q.String() == "" {
 			q = rating.Unrated
 		}
+		k := gaugingKey{q, g.Excluded}
 		st := gaugingStyle(q)
-		groups[q] = append(groups[q], plotter.XY{X: g.Discharge, Y: y})
-		if pct, ok := qualityBand(q); ok {
+		if g.Excluded {
+			st = hollowStyle(q)
+		}
+		groups[k] = append(groups[k], plotter.XY{X: g.Discharge, Y: y})
+		if pct, ok := g.barPercent(q); ok {
 			bars = append(bars, hbar{y: y, x0: g.Discharge * (1 - pct/100), x1: g.Discharge * (1 + pct/100), color: st.Color})
+			if pcts[k] == nil {
+				pcts[k] = map[float64]bool{}
+			}
+			pcts[k][pct] = true
 		}
 		n++
 	}
 	if len(bars) > 0 {
 		p.Add(hbars(bars))
 	}
-	for _, q := range qualityOrder {
-		xy, ok := groups[q]
-		if !ok {
-			continue
-		}
-		s, err := plotter.NewScatter(xy)
-		if err != nil {
-			continue
-		}
-		s.GlyphStyle = gaugingStyle(q)
-		p.Add(s)
-		label := "gauging, " + qualityName(q)
-		if pct, ok := qualityBand(q); ok {
-			label += fmt.Sprintf(" (±%g %%)", pct)
-		}
-		if !logv {
-			p.Legend.Add(label, s)
+	labelled := false
+	for _, excluded := range []bool{false, true} {
+		for _, q := range qualityOrder {
+			xy, ok := groups[gaugingKey{q, excluded}]
+			if !ok {
+				continue
+			}
+			s, err := plotter.NewScatter(xy)
+			if err != nil {
+				continue
+			}
+			s.GlyphStyle = gaugingStyle(q)
+			label := "gauging, " + qualityName(q)
+			switch set := pcts[gaugingKey{q, excluded}]; len(set) {
+			case 0:
+			case 1:
+				for pct := range set {
+					label += fmt.Sprintf(" (±%g %%)", pct)
+				}
+			default:
+				label += " (± its uncertainty)"
+			}
+			if excluded {
+				s.GlyphStyle = hollowStyle(q)
+				label = "gauging left out of the fit (hollow)"
+			}
+			p.Add(s)
+			if !logv && !(excluded && labelled) {
+				p.Legend.Add(label, s)
+				labelled = labelled || excluded
+			}
 		}
 	}
 	return n

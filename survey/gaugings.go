@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -18,6 +19,13 @@ const (
 	ColGaugeHeight      = "gauge_height"
 	ColGaugingDischarge = "discharge"
 	ColGaugingQuality   = "quality"
+	// ColGaugingUncertainty (optional) is the measurement's expanded
+	// uncertainty at the 95 % level, in percent of the discharge; it
+	// overrides the quality's band in a fit.
+	ColGaugingUncertainty = "uncertainty"
+	// ColGaugingExclude (optional): any text other than blanks leaves the
+	// gauging out of the rating fit and is shown as the reason.
+	ColGaugingExclude = "exclude"
 )
 
 // GaugingColumns returns the columns of a gaugings table in their usual
@@ -44,7 +52,13 @@ type Gaugings struct {
 var (
 	ErrNegativeDischarge = errors.New("discharge must not be negative")
 	ErrDuplicateTime     = errors.New("duplicate time")
+	ErrUncertainty       = errors.New("uncertainty must be a percentage above 0 and below 100")
 )
+
+// MaxUncertaintyPercent bounds a gauging's uncertainty column: an
+// expanded uncertainty of 100 % or more says nothing of the discharge (a
+// project choice; a log-normal error of that size is not a measurement).
+const MaxUncertaintyPercent = 100.0
 
 // ReadGaugings reads gaugings from a CSV file or a workbook sheet. For a
 // workbook with no sheet named, the sheet FieldSheetGaugings is read if present,
@@ -67,10 +81,13 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 }
 
 // GaugingsFromTable turns a table with columns time, stage (or
-// gauge_height) and discharge, and optional quality and note, into
-// gaugings. Every bad cell is reported, each naming its row and column:
-// a blank or unreadable time, stage or discharge, a negative discharge, an
-// unknown quality word, and a time given twice.
+// gauge_height) and discharge, and optional quality, note, uncertainty
+// (percent at 95 %, above 0 and below MaxUncertaintyPercent; blank: the
+// quality's band) and exclude (any text excludes the gauging from a fit
+// and is its reason), into gaugings. Every bad cell is reported, each
+// naming its row and column: a blank or unreadable time, stage or
+// discharge, a negative discharge, an unknown quality word, an
+// uncertainty that is not a number in range, and a time given twice.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	gs := Gaugings{File: t.File, Sheet: t.Sheet}
 	ct, err := t.Require(ColGaugingTime)
@@ -91,6 +108,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 	gs.Site = t.Site()
 	cqual := t.Column(ColGaugingQuality)
 	cnote := t.Column(ColNote)
+	cunc, cexcl := t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
 	var errs errorList
 	add := func(rec Record, col int, err error) {
 		errs = append(errs, t.At(rec, col, err))
@@ -115,7 +133,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		return v, ok
 	}
 	for _, rec := range t.Records {
-		g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, cnote)}
+		g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, cnote), Exclude: strings.TrimSpace(t.Cell(rec, cexcl))}
 		okAll := true
 		if s := t.Cell(rec, ct); s == "" {
 			add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
@@ -146,6 +164,17 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 				add(rec, cqual, err)
 			}
 			g.Quality = q
+		}
+		if cunc >= 0 {
+			u, ok, err := t.Float(rec, cunc)
+			switch {
+			case err != nil:
+				errs = append(errs, err.(*ParseError))
+			case ok && !(u > 0 && u < MaxUncertaintyPercent):
+				add(rec, cunc, fmt.Errorf("%w: %g", ErrUncertainty, u))
+			case ok:
+				g.Uncertainty = u
+			}
 		}
 		if okAll {
 			gs.Gaugings = append(gs.Gaugings, g)

@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
 	"time"
@@ -51,6 +52,10 @@ func TestParseGaugingsErrors(t *testing.T) {
 		{"no discharge column", "time,stage,flow\n2024-01-01,1,3\n", []string{"discharge"}, ErrMissingColumn},
 		{"no rows", "time,stage,discharge\n", []string{"no data rows"}, ErrEmpty},
 		{"two rows bad", "time,stage,discharge\nx,1,3\n2024-01-02,1,-1\n", []string{"g.csv:2:1", "g.csv:3:3"}, ErrBadTime},
+		{"uncertainty not a number", "time,stage,discharge,uncertainty\n2024-01-01,1,3,five\n", []string{"g.csv:2:4", `"five"`}, ErrNotNumber},
+		{"uncertainty zero", "time,stage,discharge,uncertainty\n2024-01-01,1,3,0\n", []string{"g.csv:2:4", "above 0"}, ErrUncertainty},
+		{"uncertainty negative", "time,stage,discharge,exclude,uncertainty (%)\n2024-01-01,1,3,,-4\n", []string{"g.csv:2:5"}, ErrUncertainty},
+		{"uncertainty 100", "time,stage,discharge,uncertainty\n2024-01-01,1,3,7\n2024-01-02,2,9,100\n", []string{"g.csv:3:4"}, ErrUncertainty},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := ParseGaugings(strings.NewReader(tc.in), "g.csv")
@@ -66,6 +71,31 @@ func TestParseGaugingsErrors(t *testing.T) {
 				t.Errorf("error %q is not %v", err, tc.is)
 			}
 		})
+	}
+}
+
+// The optional uncertainty (percent at 95 %) and exclude columns: a blank
+// uncertainty leaves the quality's band in force, any text excludes.
+func TestParseGaugingsUncertaintyExclude(t *testing.T) {
+	const in = "time,stage,discharge,quality,uncertainty (%),exclude\n" +
+		"2024-03-05T14:30,1.25,3.4,good,6.5,\n" +
+		"2024-04-01,1.80,7.9,fair,,  weed on the control \n" +
+		"2024-05-02,2.1,12.5,,,\n"
+	gs, err := ParseGaugings(strings.NewReader(in), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	g := gs.Gaugings
+	if len(g) != 3 || g[0].Uncertainty != 6.5 || g[0].Exclude != "" || g[1].Uncertainty != 0 || g[1].Exclude != "weed on the control" || g[2].Exclude != "" {
+		t.Fatalf("gaugings %+v", g)
+	}
+	// 6.5 % at 95 % is σ = 0.065/1.96 in ln Q; a fair gauging without a
+	// number takes the fair band, 8 % (Gauging.LogSigma).
+	if s := g[0].LogSigma(); math.Abs(s-0.065/1.959963984540054) > 1e-12 {
+		t.Errorf("σ = %g", s)
+	}
+	if u := g[1].UncertaintyPercent(); u != rating.FairBandPercent {
+		t.Errorf("fair uncertainty %g", u)
 	}
 }
 
@@ -125,13 +155,14 @@ func TestReadGaugingsWorkbook(t *testing.T) {
 func FuzzParseGaugings(f *testing.F) {
 	f.Add("time,stage,discharge\n2024-01-01,1,3\n")
 	f.Add("time,gauge_height,discharge,quality,note\n2024-01-01T10:00:00Z,1.5,3,poor,x\n2024-01-01T10:00:00+01:00,1,,g,\n")
+	f.Add("time,stage,discharge,uncertainty,exclude\n2024-01-01,1,3,7.5,\n2024-01-02,1.2,4,,moss\n2024-01-03,1.4,5,1e2, \n2024-01-04,1.5,6,NaN,x\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		gs, err := ParseGaugings(strings.NewReader(in), "f.csv")
 		if err != nil {
 			return
 		}
 		for _, g := range gs.Gaugings {
-			if g.Discharge < 0 || g.Stage != g.Stage || g.Source == "" {
+			if g.Discharge < 0 || g.Stage != g.Stage || g.Source == "" || g.Uncertainty < 0 || g.Uncertainty >= MaxUncertaintyPercent || g.Exclude != strings.TrimSpace(g.Exclude) {
 				t.Fatalf("accepted bad gauging %+v", g)
 			}
 		}

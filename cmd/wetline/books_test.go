@@ -142,7 +142,11 @@ type fitReport struct {
 		Excluded                 bool
 	}
 	Extrapolation struct {
-		Scale float64 `json:"scale_factor"`
+		Slope struct {
+			LogSlope float64 `json:"log_slope"`
+			Trend    float64
+			Centre   float64 `json:"centre_stage"`
+		} `json:"conveyance_slope"`
 	}
 	Table []struct {
 		Stage, Discharge float64
@@ -152,11 +156,13 @@ type fitReport struct {
 }
 
 // TestFitResultsWorkbook: fit -o results.xlsx holds the fit, the
-// residuals, the fitted table with extrapolated rows marked, and the
-// lookup sheet whose every cell is the table's rule at that stage.
+// residuals, the fitted table with extrapolated rows marked, the bands,
+// and the lookup sheet whose every cell is the table's rule at that stage
+// (least squares, whose rule above the gaugings is the conveyance-slope
+// extension).
 func TestFitResultsWorkbook(t *testing.T) {
 	t.Parallel()
-	args := []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}
+	args := []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq"}
 	out, _, err := fitRun(t, append(args, "--format", "json")...)
 	if err != nil {
 		t.Fatal(err)
@@ -170,7 +176,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 		t.Fatalf("%v: %s", err, errs)
 	}
 	f := openBook(t, path)
-	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetLookup, results.SheetNByStage, results.SheetPlots}
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetBands, results.SheetLookup, results.SheetNByStage, results.SheetPlots}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}
@@ -181,13 +187,14 @@ func TestFitResultsWorkbook(t *testing.T) {
 			t.Errorf("summary %q = %q, want %q", item, sum[item], want)
 		}
 	}
-	for item, want := range map[string]float64{"standard error of estimate": rep.SEPercent, "extrapolation scale factor": rep.Extrapolation.Scale,
-		"segment 1: exponent b": rep.Segments[0].B, "gauge height of zero flow e": rep.Segments[0].E} {
+	for item, want := range map[string]float64{"standard error of estimate": rep.SEPercent,
+		"control 1: exponent C": rep.Segments[0].B, "control 1: offset B": rep.Segments[0].E} {
 		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
 		}
 	}
-	for _, item := range []string{"segment 1: standard error of C", "calibration factor on every subsection's n", "extrapolation", "standard error of e"} {
+	for _, item := range []string{"control 1: uncertainty of A", "calibration factor on every subsection's n", "extrapolation", "control 1: uncertainty of B",
+		"uncertainty convention", "ISO 1100-2 runs test", "Johnson's three-point zero-flow stage"} {
 		if sum[item] == "" {
 			t.Errorf("summary lacks %q", item)
 		}
@@ -244,11 +251,12 @@ func TestFitResultsWorkbook(t *testing.T) {
 		t.Errorf("%d of %d rows extrapolated", marked, len(rep.Table))
 	}
 
-	// The rule, evaluated here independently: Q = C·(h − e)^b on the
-	// segment holding h (below the lowest gauging too), and above the
-	// highest gauging the hydraulic rating at elevation h + datum times the
-	// scale factor (Kennedy, 1984, USGS TWRI 3-A10, as the table's doc
-	// says).
+	// The rule, evaluated here independently: Q = A·(h − B)^C on the
+	// control holding h (below the lowest gauging too), and above the
+	// highest gauging the conveyance-slope extension Q = K(h)·√S(h) with
+	// ln S = ln S̄ + trend·(h − centre) and K the section's conveyance at
+	// elevation h + datum (Kennedy, 1984, USGS TWRI 3-A10, as the table's
+	// doc says).
 	p, err := survey.Prepare(survey.SectionRequest{Path: fitDemoSurvey})
 	if err != nil {
 		t.Fatal(err)
@@ -259,7 +267,8 @@ func TestFitResultsWorkbook(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			return rep.Extrapolation.Scale * tab.Rows[0].Discharge
+			s := rep.Extrapolation.Slope
+			return tab.Rows[0].Conveyance * math.Sqrt(math.Exp(s.LogSlope+s.Trend*(h-s.Centre)))
 		}
 		s := rep.Segments[0]
 		for _, seg := range rep.Segments {

@@ -11,7 +11,6 @@ import (
 
 	"wetline/plotting"
 	"wetline/rating"
-	"wetline/rating/gauged"
 	"wetline/rating/reach"
 	"wetline/survey"
 	"wetline/survey/batch"
@@ -271,59 +270,6 @@ func (d *demo) batch() error {
 		return err
 	}
 	d.list = append(d.list, fmt.Sprintf("  %-28s %s", out+"/", "their rating tables at once (batch mode) and index.csv with bankfull discharges"))
-	return nil
-}
-
-// fit writes the demo site's gaugings and the report that compares them
-// with the hydraulic rating, back-calculates n, fits a power-law rating
-// and extends it on the section's hydraulics.
-func (d *demo) fit() error {
-	if err := d.copy(demoGaugings, "discharge measurements at the staff gauge (invented)"); err != nil {
-		return err
-	}
-	if err := d.e.files.Commit(); err != nil {
-		return err
-	}
-	p, err := survey.Prepare(survey.SectionRequest{Path: d.path(demoSurvey)})
-	if err != nil {
-		return err
-	}
-	gs, err := survey.ReadGaugings(d.path(demoGaugings), "")
-	if err != nil {
-		return err
-	}
-	hyd := &rating.HydraulicCurve{Geometry: p.Geometry, Datum: demoDatum, Options: rating.Options{Slope: demoSlope}}
-	rep, err := gauged.Analyze(gs.Gaugings, gauged.Options{Site: p.Survey.Section.Name, Hydraulic: hyd, Lookup: true})
-	if err != nil {
-		return err
-	}
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: []string{demoGaugings, demoSurvey}}
-	for _, f := range []struct {
-		name, what string
-		write      func(io.Writer, *gauged.Report) error
-	}{
-		{"tallow-fit.txt", fmt.Sprintf("gaugings against the rating, n back-calculated, power-law fit (standard error %.1f %%)", rep.Fit.StandardErrorPercent), results.WriteFitText},
-		{"tallow-fit.json", "the same report as JSON", results.WriteFitJSON},
-		{"tallow-fit-table.csv", "lookup table from the fit, extrapolated rows marked", results.WriteFitCSV},
-	} {
-		if err := d.put(f.name, f.what, func(w io.Writer) error { return f.write(w, rep) }); err != nil {
-			return err
-		}
-	}
-	figs, w, err := plotting.DrawFit(rep, demoSite, "tallow", plotting.Size{})
-	if err != nil {
-		return err
-	}
-	rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
-	if err := d.figures(figs); err != nil {
-		return err
-	}
-	if err := d.put("tallow-fit.xlsx", "results workbook: fit, gaugings with residuals, fitted rating and lookup by hundredths (extrapolated shaded), n by stage, figure",
-		func(w io.Writer) error { return results.WriteFitWorkbook(w, rep) }); err != nil {
-		return err
-	}
-	d.warn(rep.Warnings)
 	return nil
 }
 

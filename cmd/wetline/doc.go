@@ -10,7 +10,7 @@
 //	rate       compute a stage–discharge table from a surveyed section or a built shape
 //	solve      normal and critical stage for a discharge, or the stage holding a flow area
 //	slopearea  flood peak from high-water marks over a surveyed reach (slope-area method)
-//	fit        compare gaugings with a rating, back-calculate n and fit a power-law rating
+//	fit        compare gaugings with a rating, back-calculate n, fit a rating of controls with its bands
 //	plot       draw rating, section and property figures (PNG) from a saved rating table
 //	template   write a blank field workbook (cross-sections, reach, gaugings)
 //	shape      write a built section as an editable survey CSV

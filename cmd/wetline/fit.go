@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"time"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -16,43 +17,82 @@ import (
 	"wetline/survey/results"
 )
 
-const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S [--datum D] [--channel-only] [--compare-only]] " +
-	"[--segments N | --breaks H1,H2] [--zero-flow auto|control|VALUE] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S | --hydraulic-rating TABLE] [--datum D] [--channel-only] [--compare-only] " +
+	"[--method bayes|lsq] [--controls N] [--breaks H1,H2] [--kinds K1,K2] [--joints J2] [--zero-flow auto|control|VALUE] " +
+	"[--control-section RIFFLE] [--n-cv CV] [--slope-cv CV] [--draws N] [--chains N] [--seed N] [--show-unconverged] " +
+	"[--exclude TIME,...] [--period FROM..TO] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+
+// Defaults of the fit command's Bayesian flags.
+const (
+	// fitDefaultSeed seeds the chains when --seed is not given, so that a
+	// run repeats.
+	fitDefaultSeed = 1
+)
 
 // fitFlags are the flags of the fit command.
 type fitFlags struct {
 	sectionFlags
-	gaugingSheet string
-	section      string
-	slope        float64
-	datum        float64
-	channelOnly  bool
-	compareOnly  bool
-	segments     int
-	breaks       numbers
-	zeroFlow     string
-	to, step     float64
-	format       string
-	output       string
-	plots, site  string
+	gaugingSheet    string
+	section         string
+	slope           float64
+	hydraulicTable  string
+	hydraulicSheet  string
+	datum           float64
+	channelOnly     bool
+	compareOnly     bool
+	method          string
+	controls        int
+	segments        int
+	breaks          numbers
+	kinds           string
+	joints          string
+	zeroFlow        string
+	controlSection  string
+	nCV, slopeCV    float64
+	crestCV         float64
+	draws, chains   int
+	seed            uint64
+	showUnconverged bool
+	exclude         string
+	period          string
+	to, step        float64
+	format          string
+	output          string
+	plots, site     string
 }
 
 func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.gaugingSheet, "gaugings-sheet", "", "workbook sheet holding the gaugings (default: a sheet named gaugings, else the first)")
-	fs.StringVar(&f.section, "section", "", "surveyed section at the gauge, for the hydraulic rating, n back-calculation and extrapolation")
+	fs.StringVar(&f.section, "section", "", "surveyed section at the gauge: hydraulic rating, n back-calculation, extension and prior")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope of the hydraulic rating (needed with --section)")
-	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM")
+	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
+	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first)")
+	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
 	fs.BoolVar(&f.compareOnly, "compare-only", false, "compare the gaugings with the hydraulic rating and fit nothing")
-	fs.IntVar(&f.segments, "segments", 0, "number of power-law segments, 1 to 3 (default 1, or one more than --breaks)")
+	fs.StringVar(&f.method, "method", "bayes", "how the rating is fitted: bayes (Bayesian, priors from the survey) or lsq (weighted least squares)")
+	fs.IntVar(&f.controls, "controls", 0, fmt.Sprintf("number of controls, 1 to %d, each Q = A·(h − B)^C with its own offset (default 1, or one more than --breaks; a Bayesian fit on a section whose overbanks flow below the table's top adds a floodplain control at the bank stage unless --controls, --breaks, --kinds, --joints or --control-section is given)", gauged.MaxControls))
+	fs.IntVar(&f.segments, "segments", 0, "the same as --controls (the name of earlier versions)")
 	fs.Var(&f.breaks, "breaks", "given breakpoints (gauge heights), comma-separated, instead of fitted ones")
-	fs.StringVar(&f.zeroFlow, "zero-flow", "auto", "gauge height of zero flow e: auto (fitted), control (the section's lowest point) or a number")
-	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the lookup table (default: the section's lower end, else the highest gauging)")
-	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the lookup table (default: a round step giving about 50 rows)")
+	fs.StringVar(&f.kinds, "kinds", "", "what each control is, comma-separated: section (riffle, weir crest), channel or unknown (default: channel with a section or hydraulic rating, section for the first with --control-section, else unknown)")
+	fs.StringVar(&f.joints, "joints", "", "how each control above the first joins the one below, comma-separated: replace (takes over) or add (a floodplain adding to the channel); default replace")
+	fs.StringVar(&f.zeroFlow, "zero-flow", "auto", "offset B of the first control (gauge height of zero flow): auto (fitted), control (the section's lowest point) or a number")
+	fs.StringVar(&f.controlSection, "control-section", "", "surveyed crest of a riffle or weir (same datum as --datum): the prior of a section control by critical flow (Bayesian)")
+	fs.Float64Var(&f.nCV, "n-cv", gauged.DefaultNCV, "coefficient of variation of Manning's n in the prior from the hydraulic rating (Bayesian)")
+	fs.Float64Var(&f.slopeCV, "slope-cv", gauged.DefaultSlopeCV, "coefficient of variation of the friction slope in the prior from the hydraulic rating (Bayesian)")
+	fs.Float64Var(&f.crestCV, "crest-cv", gauged.DefaultCrestCV, "coefficient of variation of the critical-flow discharge over --control-section (Bayesian)")
+	fs.IntVar(&f.draws, "draws", gauged.DefaultDraws, "posterior draws kept per chain (Bayesian)")
+	fs.IntVar(&f.chains, "chains", gauged.DefaultChains, "number of chains, each with its own seeded source (Bayesian; 2 or more for R̂)")
+	fs.Uint64Var(&f.seed, "seed", fitDefaultSeed, "seed of the chains: the same seed gives the same output (Bayesian)")
+	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
+	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file)")
+	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
+	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
+	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)
-	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, lookup sheet and figure; needs -o); default: from the -o extension, else text")
+	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, bands, posterior, lookup sheet and figure; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
-	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings (PNG) into this folder")
+	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings and both bands (PNG) into this folder")
 	fs.StringVar(&f.site, "site", "", "site name for the figure title")
 }
 
@@ -103,8 +143,8 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		summary: func(w io.Writer) error { return results.WriteFitSummary(w, rep, f.output) }})
 }
 
-// analyze reads the gaugings at path (and the section, when given) and
-// computes the gaugings report.
+// analyze reads the gaugings at path (and the section, hydraulic rating
+// table and crest section, when given) and computes the gaugings report.
 func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, error) {
 	inputs := []string{path}
 	choice, err := f.unitSystem()
@@ -122,6 +162,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	opt.Units = units
 	warnings := append([]string(nil), gs.Warnings...)
 	site := gs.Site
+	ropt := rating.Options{Slope: f.slope, Units: units, Geometry: f.geometry()}
 	if f.section != "" {
 		p, err := f.prepareIn(f.section, units)
 		if err != nil {
@@ -129,10 +170,27 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		}
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
-		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum,
-			Options: rating.Options{Slope: f.slope, Units: units, Geometry: f.geometry()}}
+		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 		opt.Site = p.Survey.Section.Name
 		site = site.Merge(p.Site)
+	}
+	if f.hydraulicTable != "" {
+		t, w, err := readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum)
+		if err != nil {
+			return nil, err
+		}
+		inputs = append(inputs, f.hydraulicTable)
+		warnings = append(warnings, w...)
+		opt.HydraulicTable = t
+	}
+	if f.controlSection != "" {
+		p, err := survey.Prepare(survey.SectionRequest{Path: f.controlSection, Units: units, UnitsGiven: true})
+		if err != nil {
+			return nil, err
+		}
+		inputs = append(inputs, p.Inputs...)
+		warnings = append(warnings, p.Warnings...)
+		opt.Crest = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 	}
 	if opt.Site == "" {
 		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
@@ -146,20 +204,47 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	return rep, nil
 }
 
+// readHydraulicTable reads a hydraulic rating table at gauge heights
+// (stage − datum): one rating, interpolated log-linearly in the stage
+// above its dry foot when it has one.
+func readHydraulicTable(path, sheet string, datum float64) (*gauged.TableRating, []string, error) {
+	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum})
+	if err != nil {
+		return nil, nil, err
+	}
+	if len(rt.Periods) != 1 || rt.Periods[0].Rating == nil {
+		return nil, nil, fmt.Errorf("%s: a hydraulic rating is one table, not %d rating periods", path, len(rt.Periods))
+	}
+	tab := *rt.Periods[0].Rating
+	tab.HasHighGauging = false
+	if ps := tab.Points; len(ps) > 1 && ps[0].Discharge == 0 {
+		e := ps[0].Stage
+		for _, p := range ps {
+			if p.Discharge > 0 {
+				break
+			}
+			e = p.Stage
+		}
+		tab.HasZeroFlow, tab.ZeroFlow = true, e
+	}
+	c, err := tab.Compile()
+	if err != nil {
+		return nil, nil, fmt.Errorf("%s: %w", path, err)
+	}
+	var warn []string
+	for _, w := range rt.Warnings {
+		if !strings.Contains(w, "gauge height of zero flow") {
+			warn = append(warn, w)
+		}
+	}
+	return c, warn, nil
+}
+
 // options checks the flags against each other and turns them into report
-// options (without the section).
+// options (without the section, tables and gaugings).
 func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	var opt gauged.Options
-	if err := fs.needs("--section SURVEY", f.section != "", "slope", "datum", "channel-only", "compare-only", "sheet", "n", "banks", "all-pools", "no-extend"); err != nil {
-		return opt, err
-	}
-	if f.section != "" && !(f.slope > 0) {
-		return opt, usagef("fit: --section needs --slope S (a positive friction slope)")
-	}
-	if err := checkSlope("fit", f.slope); err != nil {
-		return opt, err
-	}
-	if err := fs.positive("step", "segments"); err != nil {
+	if err := f.checkSources(fs); err != nil {
 		return opt, err
 	}
 	if err := fs.within(survey.MaxElevation, "datum", "to", "step"); err != nil {
@@ -167,56 +252,237 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	}
 	opt.ChannelOnly, opt.CompareOnly = f.channelOnly, f.compareOnly
 	if f.compareOnly {
-		for _, name := range []string{"segments", "breaks", "zero-flow", "to", "step"} {
+		for _, name := range []string{"segments", "controls", "breaks", "kinds", "joints", "zero-flow", "to", "step", "method", "control-section",
+			"n-cv", "slope-cv", "crest-cv", "draws", "chains", "seed", "show-unconverged"} {
 			if fs.Changed(name) {
 				return opt, usagef("fit: --%s has no use with --compare-only", name)
 			}
 		}
 	}
-	k, err := f.segmentCount(fs)
+	m, err := gauged.ParseMethod(f.method)
+	if err != nil {
+		return opt, usagef("fit: --method %q: want bayes or lsq", f.method)
+	}
+	opt.Method = m
+	if m == gauged.LeastSquares {
+		for _, name := range []string{"control-section", "n-cv", "slope-cv", "crest-cv", "draws", "chains", "seed", "show-unconverged"} {
+			if fs.Changed(name) {
+				return opt, usagef("fit: --%s is for the Bayesian fit (--method bayes)", name)
+			}
+		}
+	}
+	if err := f.controlOptions(fs, &opt.Controls); err != nil {
+		return opt, err
+	}
+	if err := f.zeroFlowOption(&opt); err != nil {
+		return opt, err
+	}
+	sel, err := f.selection()
 	if err != nil {
 		return opt, err
 	}
-	opt.Fit.Segments = k
-	if len(f.breaks) > 0 {
-		opt.Fit.Breaks = f.breaks
+	opt.Controls.Selection = sel
+	opt.Floodplain = f.controlSection == ""
+	for _, name := range []string{"controls", "segments", "breaks", "kinds", "joints"} {
+		opt.Floodplain = opt.Floodplain && !fs.Changed(name)
 	}
-	switch z := strings.ToLower(strings.TrimSpace(f.zeroFlow)); z {
-	case "auto", "":
-	case "control":
-		if f.section == "" {
-			return opt, usagef("fit: --zero-flow control needs --section SURVEY")
-		}
-		opt.ZeroFlowControl = true
-	default:
-		v, err := strconv.ParseFloat(z, 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-			return opt, usagef("fit: --zero-flow %q: want auto, control or a gauge height", f.zeroFlow)
-		}
-		opt.Fit.ZeroFlowFixed, opt.Fit.ZeroFlow, opt.Fit.ZeroFlowSource = true, v, "given"
-	}
-	opt.Table.To, opt.Table.Step = f.to, f.step
+	opt.Bayes = gauged.BayesOptions{NCV: f.nCV, SlopeCV: f.slopeCV, CrestCV: f.crestCV, Draws: f.draws, Chains: f.chains, Seed: f.seed}
+	opt.Table = gauged.ControlTableOptions{To: f.to, Step: f.step, ShowUnconverged: f.showUnconverged}
 	return opt, nil
 }
 
-// segmentCount reconciles --segments and --breaks.
-func (f *fitFlags) segmentCount(fs *flagSet) (int, error) {
-	k := f.segments
+// checkSources checks the flags of the section and the hydraulic rating
+// table, and the numbers that must be positive.
+func (f *fitFlags) checkSources(fs *flagSet) error {
+	if err := fs.needs("--section SURVEY", f.section != "", "slope", "channel-only", "sheet", "n", "banks", "all-pools", "no-extend", "shape", "composite"); err != nil {
+		return err
+	}
+	if err := fs.needs("--section SURVEY, --hydraulic-rating TABLE or --control-section RIFFLE", f.section != "" || f.hydraulicTable != "" || f.controlSection != "", "datum"); err != nil {
+		return err
+	}
+	if err := fs.needs("--hydraulic-rating TABLE", f.hydraulicTable != "", "hydraulic-rating-sheet"); err != nil {
+		return err
+	}
+	if err := fs.needs("--section SURVEY or --hydraulic-rating TABLE", f.section != "" || f.hydraulicTable != "", "compare-only", "n-cv", "slope-cv"); err != nil {
+		return err
+	}
+	if err := fs.needs("--control-section RIFFLE", f.controlSection != "", "crest-cv"); err != nil {
+		return err
+	}
+	if f.section != "" && f.hydraulicTable != "" {
+		return usagef("fit: give --section or --hydraulic-rating, not both")
+	}
+	if f.section != "" && !(f.slope > 0) {
+		return usagef("fit: --section needs --slope S (a positive friction slope)")
+	}
+	if err := checkSlope("fit", f.slope); err != nil {
+		return err
+	}
+	return fs.positive("step", "segments", "controls", "n-cv", "slope-cv", "crest-cv", "draws", "chains")
+}
+
+// controlOptions reads --controls (or --segments), --breaks, --kinds and
+// --joints.
+func (f *fitFlags) controlOptions(fs *flagSet, co *gauged.ControlOptions) error {
+	k, err := f.controlCount(fs)
+	if err != nil {
+		return err
+	}
 	if len(f.breaks) > 0 {
-		if fs.Changed("segments") && k != len(f.breaks)+1 {
-			return 0, usagef("fit: --breaks gives %d breakpoints, which make %d segments, not the %d of --segments", len(f.breaks), len(f.breaks)+1, k)
+		co.Breaks = append([]float64(nil), f.breaks...)
+	}
+	kinds, err := f.controlKinds(k)
+	if err != nil {
+		return err
+	}
+	joints, err := f.controlJoints(k)
+	if err != nil {
+		return err
+	}
+	co.Controls = make([]gauged.ControlSpec, k)
+	for j := range co.Controls {
+		co.Controls[j] = gauged.ControlSpec{Kind: kinds[j], Joint: joints[j]}
+	}
+	return nil
+}
+
+// controlCount reconciles --controls, --segments and --breaks.
+func (f *fitFlags) controlCount(fs *flagSet) (int, error) {
+	k, flag := f.controls, "--controls"
+	if fs.Changed("segments") {
+		if fs.Changed("controls") && f.segments != f.controls {
+			return 0, usagef("fit: --segments %d and --controls %d disagree (they are the same)", f.segments, f.controls)
+		}
+		k, flag = f.segments, "--segments"
+	}
+	if len(f.breaks) > 0 {
+		if k != 0 && k != len(f.breaks)+1 {
+			return 0, usagef("fit: --breaks gives %d breakpoints, which make %d controls, not the %d of %s", len(f.breaks), len(f.breaks)+1, k, flag)
 		}
 		k = len(f.breaks) + 1
 	}
 	if k == 0 {
 		k = 1
 	}
-	if k < 1 || k > gauged.MaxSegments {
-		what := fmt.Sprintf("--segments %d", k)
+	if k < 1 || k > gauged.MaxControls {
+		what := fmt.Sprintf("%s %d", flag, k)
 		if len(f.breaks) > 0 {
-			what = fmt.Sprintf("--breaks with %d values (%d segments)", len(f.breaks), k)
+			what = fmt.Sprintf("--breaks with %d values (%d controls)", len(f.breaks), k)
 		}
-		return 0, usagef("fit: %s: want 1 to %d segments", what, gauged.MaxSegments)
+		return 0, usagef("fit: %s: want 1 to %d controls", what, gauged.MaxControls)
 	}
 	return k, nil
+}
+
+// controlKinds reads --kinds, or gives the default kinds of k controls.
+func (f *fitFlags) controlKinds(k int) ([]gauged.ControlKind, error) {
+	out := make([]gauged.ControlKind, k)
+	if f.kinds == "" {
+		for j := range out {
+			switch {
+			case j == 0 && f.controlSection != "":
+				out[j] = gauged.SectionControl
+			case f.section != "" || f.hydraulicTable != "":
+				out[j] = gauged.ChannelControl
+			}
+		}
+		return out, nil
+	}
+	words := strings.Split(f.kinds, ",")
+	if len(words) != k {
+		return nil, usagef("fit: --kinds gives %d kinds for %d controls", len(words), k)
+	}
+	for j, w := range words {
+		kind, err := gauged.ParseControlKind(w)
+		if err != nil {
+			return nil, usagef("fit: --kinds: %v", err)
+		}
+		out[j] = kind
+	}
+	return out, nil
+}
+
+// controlJoints reads --joints: one word per control above the first, or
+// one per control with the first "replace".
+func (f *fitFlags) controlJoints(k int) ([]gauged.Joint, error) {
+	out := make([]gauged.Joint, k)
+	if f.joints == "" {
+		return out, nil
+	}
+	words := strings.Split(f.joints, ",")
+	if len(words) == k && k > 1 {
+		if j, err := gauged.ParseJoint(words[0]); err != nil || j != gauged.Replace {
+			return nil, usagef("fit: --joints %q: the first control joins nothing; give one word per control above the first", f.joints)
+		}
+		words = words[1:]
+	}
+	if len(words) != k-1 {
+		return nil, usagef("fit: --joints gives %d joints for %d controls (one per control above the first)", len(words), k)
+	}
+	for j, w := range words {
+		joint, err := gauged.ParseJoint(w)
+		if err != nil {
+			return nil, usagef("fit: --joints: %v", err)
+		}
+		out[j+1] = joint
+	}
+	return out, nil
+}
+
+// zeroFlowOption reads --zero-flow.
+func (f *fitFlags) zeroFlowOption(opt *gauged.Options) error {
+	switch z := strings.ToLower(strings.TrimSpace(f.zeroFlow)); z {
+	case "auto", "":
+	case "control":
+		if f.section == "" && f.hydraulicTable == "" {
+			return usagef("fit: --zero-flow control needs --section SURVEY or --hydraulic-rating TABLE")
+		}
+		opt.ZeroFlowControl = true
+	default:
+		v, err := strconv.ParseFloat(z, 64)
+		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+			return usagef("fit: --zero-flow %q: want auto, control or a gauge height", f.zeroFlow)
+		}
+		opt.Controls.OffsetFixed, opt.Controls.Offset, opt.Controls.OffsetSource = true, v, "given"
+	}
+	return nil
+}
+
+// selection reads --exclude and --period.
+func (f *fitFlags) selection() (gauged.Selection, error) {
+	var sel gauged.Selection
+	if f.exclude != "" {
+		for _, s := range strings.Split(f.exclude, ",") {
+			t, err := survey.ParseTime(s, false, false)
+			if err != nil {
+				return sel, usagef("fit: --exclude %q: %v", strings.TrimSpace(s), err)
+			}
+			sel.Exclude = append(sel.Exclude, t)
+		}
+	}
+	if f.period == "" {
+		return sel, nil
+	}
+	from, to, ok := strings.Cut(f.period, "..")
+	if !ok {
+		return sel, usagef("fit: --period %q: want FROM..TO (either end may be left open)", f.period)
+	}
+	var err error
+	if s := strings.TrimSpace(from); s != "" {
+		if sel.From, err = survey.ParseTime(s, false, false); err != nil {
+			return sel, usagef("fit: --period from %q: %v", s, err)
+		}
+	}
+	if s := strings.TrimSpace(to); s != "" {
+		if sel.To, err = survey.ParseTime(s, false, false); err != nil {
+			return sel, usagef("fit: --period to %q: %v", s, err)
+		}
+		if len(s) == len(time.DateOnly) {
+			sel.To = sel.To.Add(24*time.Hour - time.Nanosecond) // the whole of that day
+		}
+	}
+	if !sel.From.IsZero() && !sel.To.IsZero() && !sel.To.After(sel.From) {
+		return sel, usagef("fit: --period %q: the end is not after the start", f.period)
+	}
+	return sel, nil
 }

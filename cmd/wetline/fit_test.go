@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -28,6 +29,9 @@ func fitRun(t *testing.T, args ...string) (string, string, error) {
 const (
 	fitDemoGaugings = "demodata/tallow-gaugings.csv"
 	fitDemoSurvey   = "demodata/tallow-xs1.csv"
+	// fitDemoRatingTable is the demo section's hydraulic rating as rate
+	// writes it (rate demodata/tallow-xs1.csv --slope 0.0012 --format csv).
+	fitDemoRatingTable = "testdata/tallow-xs1-rating.csv"
 )
 
 func TestFitGolden(t *testing.T) {
@@ -37,9 +41,13 @@ func TestFitGolden(t *testing.T) {
 		args []string
 	}{
 		{"fit-demo.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"}},
-		{"fit-demo-2seg.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only"}},
+		{"fit-demo-lsq.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq"}},
+		{"fit-demo-2seg.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--segments", "2", "--channel-only", "--method", "lsq"}},
 		{"fit-demo-control.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--zero-flow", "control", "--format", "csv"}},
 		{"fit-demo-compare.csv", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--compare-only", "--format", "csv"}},
+		{"fit-demo-table.txt", []string{"fit", fitDemoGaugings, "--hydraulic-rating", fitDemoRatingTable, "--datum", "100", "--method", "lsq", "--step", "0.2"}},
+		{"fit-demo-select.txt", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq",
+			"--exclude", "2019-07-15T12:45,2020-09-28T09:30", "--period", "2019-06-01..2023-12-31", "--step", "0.5"}},
 		{"fit-nosection.txt", []string{"fit", fitDemoGaugings, "--zero-flow", "0.3", "--step", "0.25"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -86,6 +94,173 @@ func TestFitJSONContract(t *testing.T) {
 	}
 	if doc["datum"] != 100.0 {
 		t.Errorf("datum = %v", doc["datum"])
+	}
+	// What the report grew: each control its own offset and joint, both
+	// bands and the multiple of the largest gauging on every row (the
+	// last one too), the posterior, the method, the tests and the
+	// convention.
+	need(doc, "method", "uncertainty_convention", "posterior", "relation_tests", "johnson", "selection", "more_controls")
+	segs := doc["segments"].([]any)
+	for _, s := range segs {
+		need(s.(map[string]any), "zero_flow_stage", "control", "kind", "prior")
+	}
+	if doc["method"] != "bayes" || len(segs) != 2 || segs[1].(map[string]any)["control"] != "add" || doc["floodplain_added"] != true {
+		t.Errorf("method %v, segments %v", doc["method"], segs)
+	}
+	last := rows[len(rows)-1].(map[string]any)
+	need(last, "parametric_lower_95", "parametric_upper_95", "total_lower_95", "total_upper_95", "basis", "gauged_multiple")
+	for _, k := range []string{"parametric_lower_95", "total_lower_95", "total_upper_95", "gauged_multiple"} {
+		if _, ok := last[k].(float64); !ok {
+			t.Errorf("last row %s = %v, want a number", k, last[k])
+		}
+	}
+	post := doc["posterior"].(map[string]any)
+	need(post, "parameters", "rhat_max", "ess_min", "acceptance")
+	need(post["parameters"].([]any)[0].(map[string]any), "name", "mean", "sd", "p2_5", "p50", "p97_5", "prior_mean", "prior_sd")
+	need(doc["relation_tests"].(map[string]any), "sign", "runs", "mean_departure")
+}
+
+// fitJSON runs fit with --format json and decodes the report.
+func fitJSON(t *testing.T, args ...string) map[string]any {
+	t.Helper()
+	out, _, err := fitRun(t, append(append([]string{"fit"}, args...), "--format", "json")...)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var doc map[string]any
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	return doc
+}
+
+// tableInterp bounds the relative difference, at the demo gaugings,
+// between the section's hydraulic rating and the same rating read from
+// its table in 0.1 m rows, interpolated log-linearly above its dry foot
+// (measured at most 4 % by this test, at the lowest gauging, 0.16 m above
+// the foot, where the section is not a power law of the depth; higher up
+// well under 1 %).
+const tableInterp = 0.05
+
+// A hydraulic rating table (the demo section's, as rate writes it) stands
+// in for the section: the gaugings are compared with it (to the table's
+// interpolation), least squares extends on it by conveyance-slope, and a
+// Bayesian fit takes its prior from it.
+func TestFitHydraulicTable(t *testing.T) {
+	t.Parallel()
+	sec := fitJSON(t, fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq")
+	tab := fitJSON(t, fitDemoGaugings, "--hydraulic-rating", fitDemoRatingTable, "--datum", "100", "--method", "lsq")
+	if src, _ := tab["hydraulic_source"].(string); !strings.HasPrefix(src, "table ") {
+		t.Errorf("hydraulic source %q", src)
+	}
+	gs, gt := sec["gaugings"].([]any), tab["gaugings"].([]any)
+	for i := range gs {
+		a, b := gs[i].(map[string]any)["hydraulic"].(float64), gt[i].(map[string]any)["hydraulic"].(float64)
+		if math.Abs(a-b) > tableInterp*a {
+			t.Errorf("gauging %d: section %g, table %g", i+1, a, b)
+		}
+	}
+	rows := tab["table"].([]any)
+	if b := rows[len(rows)-1].(map[string]any)["basis"]; b != "conveyance-slope" {
+		t.Errorf("top row basis %v", b)
+	}
+	bayes := fitJSON(t, fitDemoGaugings, "--hydraulic-rating", fitDemoRatingTable, "--datum", "100", "--draws", "1000")
+	if p, _ := bayes["segments"].([]any)[0].(map[string]any)["prior"].(string); !strings.Contains(p, "hydraulic rating table") {
+		t.Errorf("prior %q", p)
+	}
+}
+
+// A surveyed riffle crest (invented test data, its lowest point at gauge
+// height 0.30 m) makes the first control a section control whose prior is
+// critical flow over it, its offset's prior the crest's lowest point.
+func TestFitControlSection(t *testing.T) {
+	t.Parallel()
+	doc := fitJSON(t, fitDemoGaugings, "--control-section", "testdata/tallow-riffle.csv", "--datum", "100", "--draws", "1000")
+	seg := doc["segments"].([]any)[0].(map[string]any)
+	if seg["kind"] != "section" || !strings.Contains(seg["prior"].(string), "critical flow over the crest") {
+		t.Errorf("segment %v", seg)
+	}
+	for _, p := range doc["posterior"].(map[string]any)["parameters"].([]any) {
+		if q := p.(map[string]any); q["name"] == "b1" && math.Abs(q["prior_mean"].(float64)-0.3) > 1e-9 {
+			t.Errorf("offset prior %v, want the crest at 0.3", q["prior_mean"])
+		}
+	}
+}
+
+// The gaugings' own uncertainty and exclude columns, and --exclude and
+// --period: every gauging stays in the report, those left out marked with
+// their reason and their departures; a listed time that matches no
+// gauging is a warning.
+func TestFitExcludeAndUncertainty(t *testing.T) {
+	t.Parallel()
+	in := filepath.Join(t.TempDir(), "g.csv")
+	csv := "time,stage,discharge,quality,uncertainty,exclude\n"
+	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0, 2.4} {
+		q := 8 * math.Pow(h-0.3, 2) * (1 + 0.01*float64(i%3-1)) // invented
+		excl, unc := "", ""
+		if i == 3 {
+			excl, q = "weed on the control", 1.5*q
+		}
+		if i == 5 {
+			unc = "3"
+		}
+		csv += fmt.Sprintf("2024-0%d-01,%g,%g,good,%s,%s\n", i+1, h, q, unc, excl)
+	}
+	if err := os.WriteFile(in, []byte(csv), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	doc := fitJSON(t, in, "--method", "lsq", "--exclude", "2024-07-01,2025-01-01", "--period", "..2024-07-01")
+	gs := doc["gaugings"].([]any)
+	want := map[int]string{3: "weed on the control", 6: "excluded by time"}
+	for i, g := range gs {
+		m := g.(map[string]any)
+		if m["excluded_reason"] != want[i] || m["excluded"] != (want[i] != "") || m["departure_percent"] == nil {
+			t.Errorf("gauging %d: %v", i+1, m)
+		}
+	}
+	if u := gs[5].(map[string]any)["uncertainty_percent"]; u != 3.0 {
+		t.Errorf("uncertainty %v, want 3 from the column", u)
+	}
+	// The excluded gauging is 1.5·0.99 times the invented law, the fit
+	// within about 2 % of the law (its other gaugings are within 1 %).
+	if d := gs[3].(map[string]any)["departure_percent"].(float64); math.Abs(d-48.5) > 3 {
+		t.Errorf("excluded gauging departs %g %%, want about 48.5", d)
+	}
+	if w := strings.Join(toStrings(doc["warnings"]), "\n"); !strings.Contains(w, "no gauging at 2025-01-01") {
+		t.Errorf("warnings %q", w)
+	}
+	if s := doc["selection"].(map[string]any); s["fitted"] != 5.0 || s["excluded"] != 2.0 {
+		t.Errorf("selection %v", s)
+	}
+}
+
+// toStrings turns a decoded JSON list into strings.
+func toStrings(v any) []string {
+	var out []string
+	for _, s := range v.([]any) {
+		out = append(out, s.(string))
+	}
+	return out
+}
+
+// Chains too short to agree (10 draws each): the bands are withheld, with
+// a warning, unless --show-unconverged asks for them.
+func TestFitUnconverged(t *testing.T) {
+	t.Parallel()
+	for _, show := range []bool{false, true} {
+		args := []string{fitDemoGaugings, "--draws", "10"}
+		if show {
+			args = append(args, "--show-unconverged")
+		}
+		doc := fitJSON(t, args...)
+		row := doc["table"].([]any)[5].(map[string]any)
+		_, has := row["total_lower_95"].(float64)
+		if doc["bands_withheld"] != !show || has != show || doc["posterior"].(map[string]any)["converged"] != false {
+			t.Errorf("show %v: withheld %v, band %v, converged %v", show, doc["bands_withheld"], row["total_lower_95"], doc["posterior"].(map[string]any)["converged"])
+		}
+		if w := strings.Join(toStrings(doc["warnings"]), "\n"); show == strings.Contains(w, "bands withheld") {
+			t.Errorf("show %v: warnings %q", show, w)
+		}
 	}
 }
 
@@ -136,8 +311,29 @@ func TestFitUsageErrors(t *testing.T) {
 		{"fit", fitDemoGaugings, "--compare-only"},
 		{"fit", fitDemoGaugings, "--zero-flow", "control"},
 		{"fit", fitDemoGaugings, "--zero-flow", "low"},
-		{"fit", fitDemoGaugings, "--segments", "4"},
+		{"fit", fitDemoGaugings, "--segments", "5"},
+		{"fit", fitDemoGaugings, "--controls", "0"},
 		{"fit", fitDemoGaugings, "--segments", "3", "--breaks", "1"},
+		{"fit", fitDemoGaugings, "--segments", "2", "--controls", "3"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--kinds", "channel"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--kinds", "channel,weir"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--joints", "add,add"},
+		{"fit", fitDemoGaugings, "--controls", "3", "--joints", "add"},
+		{"fit", fitDemoGaugings, "--controls", "2", "--joints", "join"},
+		{"fit", fitDemoGaugings, "--method", "mcmc"},
+		{"fit", fitDemoGaugings, "--method", "lsq", "--draws", "100"},
+		{"fit", fitDemoGaugings, "--method", "lsq", "--show-unconverged"},
+		{"fit", fitDemoGaugings, "--draws", "0"},
+		{"fit", fitDemoGaugings, "--n-cv", "0.1"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--n-cv", "-0.1"},
+		{"fit", fitDemoGaugings, "--crest-cv", "0.1"},
+		{"fit", fitDemoGaugings, "--datum", "100"},
+		{"fit", fitDemoGaugings, "--hydraulic-rating-sheet", "x"},
+		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--hydraulic-rating", "r.csv"},
+		{"fit", fitDemoGaugings, "--exclude", "yesterday"},
+		{"fit", fitDemoGaugings, "--period", "2020-01-01"},
+		{"fit", fitDemoGaugings, "--period", "2021-01-01..2020-01-01"},
+		{"fit", fitDemoGaugings, "--period", "..2020-13-01"},
 		{"fit", fitDemoGaugings, "--format", "xml"},
 		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only", "--segments", "2"},
 		{"rate", fitDemoSurvey, "--slope", "0.0012", "--channel-only"},
@@ -151,16 +347,35 @@ func TestFitUsageErrors(t *testing.T) {
 }
 
 // Refusing to extrapolate past the section's lower end (104.8 m, gauge
-// height 4.8 m) or above the gaugings without a section.
+// height 4.8 m); without a section the fitted controls are carried above
+// the gaugings only when asked (--to), each row saying how far.
 func TestFitRefusesPastSection(t *testing.T) {
 	t.Parallel()
 	_, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "5")
 	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
 		t.Errorf("past the section: err = %v", err)
 	}
-	_, _, err = fitRun(t, "fit", fitDemoGaugings, "--to", "3.5")
-	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
-		t.Errorf("no section: err = %v", err)
+	for _, method := range []string{"bayes", "lsq"} {
+		out, _, err := fitRun(t, "fit", fitDemoGaugings, "--to", "3.5", "--method", method, "--format", "json")
+		if err != nil {
+			t.Fatalf("%s: %v", method, err)
+		}
+		var doc struct {
+			Table []struct {
+				Stage, Discharge float64
+				Basis            string
+				Multiple         *float64 `json:"gauged_multiple"`
+				TotalLower       *float64 `json:"total_lower_95"`
+			}
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		last := doc.Table[len(doc.Table)-1]
+		// The largest demo gauging is 66.1 m³/s at 2.96 m (demodata).
+		if last.Stage != 3.5 || last.Basis != "fit above gaugings" || last.Multiple == nil || math.Abs(*last.Multiple-last.Discharge/66.1) > 1e-9 || last.TotalLower == nil {
+			t.Errorf("%s: last row %+v", method, last)
+		}
 	}
 }
 
@@ -194,7 +409,7 @@ func TestRateCalibrate(t *testing.T) {
 func TestDemoWritesFit(t *testing.T) {
 	t.Parallel()
 	dir, out := demoOutput(t)
-	for _, name := range []string{"tallow-gaugings.csv", "tallow-fit.txt", "tallow-fit.json", "tallow-fit-table.csv"} {
+	for _, name := range []string{"tallow-gaugings.csv", "tallow-fit.txt", "tallow-fit.json", "tallow-fit-table.csv", "tallow-fit-lsq.txt", "tallow-fit.png", "tallow-lsq-fit.png", "tallow-fit.xlsx"} {
 		if !strings.Contains(out, name) {
 			t.Errorf("demo output does not list %s", name)
 		}
@@ -237,7 +452,7 @@ func TestFitWorkbookGaugings(t *testing.T) {
 	if err := f.SaveAs(path); err != nil {
 		t.Fatal(err)
 	}
-	out, _, err := fitRun(t, "fit", path, "--format", "json")
+	out, _, err := fitRun(t, "fit", path, "--format", "json", "--method", "lsq")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -279,5 +494,35 @@ func TestFitPlots(t *testing.T) {
 	cfg, err := png.DecodeConfig(f)
 	if err != nil || cfg.Width != plotting.DefaultWidth || cfg.Height != plotting.DefaultHeight {
 		t.Errorf("%v %dx%d", err, cfg.Width, cfg.Height)
+	}
+}
+
+// --controls, --kinds and --joints say what each control is and how it
+// joins the one below; --joints takes one word per control above the
+// first, or one per control with the first "replace".
+func TestFitControlFlags(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		args         []string
+		kinds, joins []string
+	}{
+		{[]string{"--controls", "2", "--kinds", "section,channel", "--joints", "replace"}, []string{"section", "channel"}, []string{"replace", "replace"}},
+		{[]string{"--segments", "2", "--joints", "replace,add", "--breaks", "2.2"}, []string{"channel", "channel"}, []string{"replace", "add"}},
+		{[]string{"--breaks", "1.2"}, []string{"channel", "channel"}, []string{"replace", "replace"}},
+	} {
+		doc := fitJSON(t, append([]string{fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq"}, tc.args...)...)
+		segs := doc["segments"].([]any)
+		if len(segs) != len(tc.kinds) {
+			t.Fatalf("%q: %d segments", tc.args, len(segs))
+		}
+		for j, s := range segs {
+			m := s.(map[string]any)
+			if m["kind"] != tc.kinds[j] || m["control"] != tc.joins[j] {
+				t.Errorf("%q: control %d is %v, %v", tc.args, j+1, m["kind"], m["control"])
+			}
+		}
+		if doc["floodplain_added"] != false {
+			t.Errorf("%q: a floodplain was added", tc.args)
+		}
 	}
 }

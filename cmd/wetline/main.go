@@ -39,7 +39,7 @@ func commandTable() map[string]command {
 		"shape":     {"write a built section (trapezoid, compound, ...) as an editable survey CSV", runShape},
 		"slopearea": {"flood peak from high-water marks over a surveyed reach (slope-area method)", runSlopeArea},
 		"backwater": {"water-surface profiles and a rating through a surveyed reach (step-backwater method)", runBackwater},
-		"fit":       {"compare gaugings with a rating, back-calculate n and fit a power-law rating", runFit},
+		"fit":       {"compare gaugings with a rating, back-calculate n, fit a rating of controls with its bands", runFit},
 		"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
 		"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
 		"project":   {"turn a coordinate survey (easting, northing, elevation) into stations along its section line", runProject},

@@ -70,6 +70,12 @@ type BayesOptions struct {
 	// gauge): the prior of section controls (CrestPrior) and of their
 	// offset (the crest's lowest point). Nil: weak priors.
 	Crest *rating.HydraulicCurve
+	// HydraulicTable, used when Hydraulic is nil, is a hydraulic rating
+	// given as a table at gauge heights: the prior of channel controls
+	// (TablePrior) and of the first channel control's offset (the table's
+	// TableBottom). It gives no share of the discharge to a floodplain, so
+	// a control that adds takes weak priors.
+	HydraulicTable *TableRating
 	// NCV, SlopeCV and CrestCV are the coefficients of variation of n,
 	// slope and crest discharge (defaults DefaultNCV, DefaultSlopeCV,
 	// DefaultCrestCV; ≥ 0).
@@ -149,7 +155,10 @@ type bayesProblem struct {
 	priors  []prior // one per parameter of the full vector
 	opt     BayesOptions
 	sources []string // per control, where its prior came from
-	warn    []string
+	// informative reports, per control, priors of ln A and C from the
+	// survey or given (not the weak defaults).
+	informative []bool
+	warn        []string
 }
 
 // FitBayes fits a rating of controls (see NewRating) to gaugings by
@@ -252,7 +261,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	f.Posterior = post
 	f.Controls = b.controlsFromPosterior(r, post)
 	f.Warnings = append(f.Warnings, post.warnings()...)
-	f.finishCommon(gs, reasons)
+	f.finishCommon(gs, reasons, b.exponentBounds())
 	for k := range kinds {
 		lo, hi := math.Inf(-1), math.Inf(1)
 		if k > 0 {
@@ -365,6 +374,7 @@ func (b *bayesProblem) resolvePriors(est []float64) error {
 	k := m.k()
 	b.priors = make([]prior, m.fullLen())
 	b.sources = make([]string, k)
+	b.informative = make([]bool, k)
 	given := func(j int) ControlPrior {
 		if o.Priors == nil {
 			return ControlPrior{}
@@ -437,8 +447,8 @@ func (b *bayesProblem) resolvePriors(est []float64) error {
 		to := d.hi
 		if j+1 < k {
 			to = breakAt(j + 1)
-		} else if o.Hydraulic != nil {
-			to = math.Max(o.Hydraulic.Top(), to)
+		} else if ref := referenceOf(o.Hydraulic, o.HydraulicTable); ref.ok() {
+			to = math.Max(ref.top(), to)
 		}
 		derived, src, err := b.derivedPrior(j, from, to)
 		if err != nil {
@@ -457,6 +467,7 @@ func (b *bayesProblem) resolvePriors(est []float64) error {
 		}
 		b.priors[m.iLnA(j)], b.priors[m.iC(j)] = fromParam(lnA), fromParam(c)
 		b.sources[j] = src
+		b.informative[j] = (derived.Source != "" || gp.LogCoefficient.given()) && !o.FlatPriors
 	}
 	// The remnant.
 	ir := m.iRemnant()
@@ -491,6 +502,8 @@ func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
 		return b.opt.Crest.Bottom(), true
 	case b.m.kinds[j] == ChannelControl && b.opt.Hydraulic != nil:
 		return b.opt.Hydraulic.Bottom(), true
+	case b.m.kinds[j] == ChannelControl && b.opt.HydraulicTable != nil:
+		return TableBottom(b.opt.HydraulicTable), true
 	}
 	return 0, false
 }
@@ -519,6 +532,19 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 			}
 		}
 		cp, err := HydraulicPrior(*o.Hydraulic, from, to, ho)
+		if err != nil {
+			return weak, weakSrc, err
+		}
+		return cp, cp.Source, nil
+	case m.kinds[j] == ChannelControl && o.HydraulicTable != nil:
+		if j > 0 && m.joints[j] == Add {
+			return weak, weakSrc, fmt.Errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
+		}
+		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV}
+		if p := b.priors[m.iB()]; j == 0 && finite(p.mean) {
+			ho.OffsetFixed, ho.Offset = true, p.mean
+		}
+		cp, err := TablePrior(o.HydraulicTable, from, to, ho)
 		if err != nil {
 			return weak, weakSrc, err
 		}
@@ -765,4 +791,24 @@ func (b *bayesProblem) overdispersed(x []float64, l *mat.TriDense, rnd *rand.Ran
 		}
 	}
 	return x
+}
+
+// exponentBounds returns the exponents each control may take without a
+// warning: its kind's range (ExponentRange), and for a control that adds
+// (a floodplain, whose width grows from nothing at the bank faster than
+// any prismatic shape's) with its prior from the survey, that range
+// widened to two prior standard deviations about the exponent of the
+// overbanks' own rating.
+func (b *bayesProblem) exponentBounds() []ExponentBounds {
+	out := make([]ExponentBounds, b.m.k())
+	for j := range out {
+		lo, hi := ExponentRange(b.m.kinds[j])
+		out[j] = ExponentBounds{Low: lo, High: hi}
+		if p := b.priors[b.m.iC(j)]; j > 0 && b.m.joints[j] == Add && b.informative[j] && finite(p.mean) && finite(p.sd) {
+			out[j].Low = math.Min(lo, p.mean-2*p.sd)
+			out[j].High = math.Max(hi, p.mean+2*p.sd)
+			out[j].Survey = true
+		}
+	}
+	return out
 }

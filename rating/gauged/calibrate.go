@@ -58,8 +58,16 @@ type Calibration struct {
 var ErrCalibrate = errors.New("no gauging can calibrate n")
 
 // Calibrate back-calculates n from gaugings on the hydraulic rating c (see
-// Calibration). Gaugings with zero discharge are left out.
+// Calibration). Gaugings with zero discharge are left out; a gauging
+// whose Exclude is not blank keeps its own factor but is left out of the
+// best one. Weights are 1/σ² with σ the gauging's LogSigma.
 func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibration, error) {
+	return calibrate(gs, c, channelOnly, Selection{})
+}
+
+// calibrate is Calibrate with the best factor taken over the gaugings sel
+// selects.
+func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Selection) (Calibration, error) {
 	cal := Calibration{ChannelOnly: channelOnly, Factor: math.NaN(), StandardErrorPercent: math.NaN()}
 	if channelOnly {
 		has := false
@@ -103,10 +111,13 @@ func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibra
 			cal.Warnings = append(cal.Warnings, fmt.Sprintf("%s: gauge height %g: the scaled subsections are dry: no factor on n", g.label(), g.Stage))
 		case !(g.Discharge > qo):
 			cal.Warnings = append(cal.Warnings, fmt.Sprintf("%s: the measured %g is not above the %g the unscaled subsections carry: no factor on the channel's n fits", g.label(), g.Discharge, qo))
+		case sel.Reason(g) != "":
+			pt.Factor = qs / (g.Discharge - qo)
+			pt.N = pt.Factor * r.Subs[pt.Subsection].N
 		default:
 			pt.Factor = qs / (g.Discharge - qo)
 			pt.N = pt.Factor * r.Subs[pt.Subsection].N
-			w := g.Quality.Weight()
+			w := 1 / (g.LogSigma() * g.LogSigma())
 			parts = append(parts, part{qs, qo, g.Discharge, w})
 			swl += w * math.Log(r.Discharge/g.Discharge)
 			sw += w

@@ -315,15 +315,34 @@ func (r Rating) Stage(q float64) (float64, error) {
 	return 0.5 * (lo + hi), nil
 }
 
+// ExponentBounds are the exponents a control may take without a warning.
+type ExponentBounds struct {
+	// Low and High bound the exponent (dimensionless).
+	Low, High float64
+	// Survey reports bounds widened to the survey's own rating.
+	Survey bool
+}
+
 // ExponentWarnings returns a sentence for every control whose exponent
 // lies outside ExponentRange of its kind.
-func (r Rating) ExponentWarnings() []string {
+func (r Rating) ExponentWarnings() []string { return r.exponentWarnings(nil) }
+
+// exponentWarnings returns a sentence for every control whose exponent
+// lies outside its bounds (nil: ExponentRange of its kind).
+func (r Rating) exponentWarnings(bounds []ExponentBounds) []string {
 	var out []string
 	for k, c := range r.Controls {
 		lo, hi := ExponentRange(c.Kind)
+		what := "such a control allows"
+		if k < len(bounds) {
+			lo, hi = bounds[k].Low, bounds[k].High
+			if bounds[k].Survey {
+				what = "such a control and the section's own rating allow"
+			}
+		}
 		if c.C < lo || c.C > hi {
-			out = append(out, fmt.Sprintf("control %d (%s) has exponent %.3g, outside %.3g to %.3g that such a control allows: check the control or its breakpoints",
-				k+1, c.Kind, c.C, lo, hi))
+			out = append(out, fmt.Sprintf("control %d (%s) has exponent %.3g, outside %.3g to %.3g that %s: check the control or its breakpoints",
+				k+1, c.Kind, c.C, lo, hi, what))
 		}
 	}
 	return out

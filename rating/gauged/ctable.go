@@ -61,6 +61,10 @@ type ControlTableOptions struct {
 	// extension of a least-squares fit above the highest gauging, the
 	// Hydraulic column and the default top.
 	Hydraulic *rating.HydraulicCurve
+	// HydraulicTable, used when Hydraulic is nil, is a hydraulic rating
+	// given as a table at gauge heights, in the same roles (its discharge
+	// standing in for the conveyance; see FitConveyanceSlopeTable).
+	HydraulicTable *TableRating
 	// ExtensionGaugings is the number of highest gaugings the
 	// conveyance-slope extension is fitted to (0: those on the top
 	// control, or the upper half of the gauged stages with one control;
@@ -89,11 +93,14 @@ type ControlTable struct {
 	BandsWithheld bool
 	// BandNote says what the two bands are, in words.
 	BandNote string
+	// AboveNote says what the rows above the highest gauging rest on, in
+	// words ("" when the table stops there).
+	AboveNote string
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 
 	fit *ControlFit
-	hyd *rating.HydraulicCurve
+	hyd reference
 }
 
 // Table lays out the fitted rating as a table from the first offset, with
@@ -114,27 +121,32 @@ type ControlTable struct {
 //	Le Coz, J., et al. (2014). Journal of Hydrology 509, 573–587
 //	(parametric and total bands from the posterior).
 func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
-	t := ControlTable{Method: f.Method, MaxDischarge: f.MaxDischarge, MaxMultiple: math.NaN(), fit: f, hyd: opt.Hydraulic}
+	c := referenceOf(opt.Hydraulic, opt.HydraulicTable)
+	t := ControlTable{Method: f.Method, MaxDischarge: f.MaxDischarge, MaxMultiple: math.NaN(), fit: f, hyd: c}
 	u := f.Units
 	lo, top := f.Rating.Controls[0].B, f.HighStage
-	if c := opt.Hydraulic; c != nil {
-		top = math.Max(top, c.Top())
-		if c.Top() < f.HighStage {
-			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge)", f.HighStage, u.Length(), c.Top(), u.Length()))
+	end := "the section's lower end"
+	if c.tab != nil {
+		end = "the hydraulic rating table's last row"
+	}
+	if c.ok() {
+		top = math.Max(top, c.top())
+		if c.top() < f.HighStage {
+			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%g %s) is above %s (%g %s on the gauge)", f.HighStage, u.Length(), end, c.top(), u.Length()))
 		}
 	}
 	if opt.To != 0 {
-		if c := opt.Hydraulic; c != nil && opt.To > math.Max(c.Top(), f.HighStage) {
-			return t, fmt.Errorf("%w: stage %g %s is above the section's lower end at %g %s", ErrBeyondSection, opt.To, u.Length(), c.Top(), u.Length())
+		if c.ok() && opt.To > math.Max(c.top(), f.HighStage) {
+			return t, fmt.Errorf("%w: stage %g %s is above %s at %g %s", ErrBeyondSection, opt.To, u.Length(), end, c.top(), u.Length())
 		}
 		if !(opt.To > lo) {
 			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
 		}
 		top = opt.To
 	}
-	if f.Method == LeastSquares && opt.Hydraulic != nil && top > f.HighStage {
+	if f.Method == LeastSquares && c.ok() && top > f.HighStage {
 		h, q, w := upperGaugings(f.d, f.Rating, opt.ExtensionGaugings)
-		ext, err := FitConveyanceSlope(*opt.Hydraulic, h, q, w)
+		ext, err := fitConveyanceSlope(c, h, q, w)
 		if err != nil {
 			t.Warnings = append(t.Warnings, fmt.Sprintf("%v: the fitted rating is carried above the gaugings instead", err))
 		} else {
@@ -146,12 +158,15 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		t.Warnings = append(t.Warnings, fmt.Sprintf("bands withheld: the chains disagree (R̂ = %.3g > %g)", f.Posterior.RHatMax, RHatLimit))
 	}
 	t.BandNote = t.bandNote()
+	if top > f.HighStage {
+		t.AboveNote = t.aboveNote()
+	}
 	stages, err := tableStages(lo, top, opt.Step, []float64{f.LowStage, f.HighStage})
 	if err != nil {
 		return t, err
 	}
 	for _, h := range stages {
-		r, err := t.row(h)
+		r, err := t.row(h, true)
 		if err != nil {
 			return t, err
 		}
@@ -185,9 +200,9 @@ func (t *ControlTable) extensionWarnings() []string {
 		out = append(out, fmt.Sprintf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
 			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))
 	}
-	if t.Extension != nil && t.hyd != nil {
-		if r, err := t.hyd.Row(f.HighStage); err == nil {
-			q, _, _, _, _ := t.Extension.At(f.HighStage, r.Conveyance)
+	if t.Extension != nil && t.hyd.ok() {
+		if _, k, err := t.hyd.at(f.HighStage); err == nil {
+			q, _, _, _, _ := t.Extension.At(f.HighStage, k)
 			fit := f.Rating.Discharge(f.HighStage)
 			_, _, tLo, tHi := f.Band(f.HighStage)
 			if q < tLo || q > tHi {
@@ -205,6 +220,32 @@ func (t *ControlTable) extensionWarnings() []string {
 		prev = r.Discharge
 	}
 	return out
+}
+
+// aboveNote says what the rows above the highest gauging rest on.
+func (t *ControlTable) aboveNote() string {
+	f := t.fit
+	u := f.Units
+	head := fmt.Sprintf("above the highest gauging (%g %s, %.4g %s) ", f.HighStage, u.Length(), f.MaxDischarge, u.Discharge())
+	if e := t.Extension; e != nil {
+		how := fmt.Sprintf("S levels off (no significant trend with stage, p = %.2g)", e.TrendP)
+		if math.IsNaN(e.TrendP) {
+			how = "S is constant"
+		}
+		if !e.Level {
+			how = fmt.Sprintf("ln S follows a straight line in stage (trend %.3g per %s, p = %.2g)", e.Trend, u.Length(), e.TrendP)
+		}
+		ref := "the section's conveyance K"
+		if t.hyd.tab != nil {
+			ref = "the hydraulic rating table's discharge in place of K·√S₀"
+		}
+		return head + fmt.Sprintf("the table follows the conveyance-slope extension Q = K·√S(h) on %s: S = (Q/K)² of the %d highest gaugings, where %s (Kennedy, 1984)",
+			ref, len(e.Points), how)
+	}
+	if t.Method == Bayesian {
+		return head + "the table carries the fitted controls on; its bands are those of the posterior, which there rests on the top control's prior as the gaugings pull it"
+	}
+	return head + "the table carries the top control on; its bands are those of the fitted relation carried on, with no hydraulic basis"
 }
 
 // aboveWhat names what rows above the gaugings rest on.
@@ -255,22 +296,33 @@ func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
 	return out, nil
 }
 
-// row returns the table's row at gauge height h.
-func (t *ControlTable) row(h float64) (ControlRow, error) {
+// row returns the table's row at gauge height h, with its bands when
+// bands is set (NaN otherwise).
+func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	f := t.fit
 	r := ControlRow{Stage: h, Multiple: math.NaN(), Hydraulic: math.NaN()}
 	k := math.NaN()
-	if t.hyd != nil {
-		hr, err := t.hyd.Row(h)
+	if t.hyd.ok() {
+		q, kk, err := t.hyd.at(h)
 		if err != nil {
 			return r, err
 		}
-		r.Hydraulic, k = hr.Discharge, hr.Conveyance
+		r.Hydraulic, k = q, kk
 	}
 	switch {
 	case h > f.HighStage && t.Extension != nil:
 		r.Basis = ConveyanceSlopeAbove
 		r.Discharge, r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = t.Extension.At(h, k)
+	case !bands:
+		switch {
+		case h > f.HighStage:
+			r.Basis = FitAboveGaugings
+		case h < f.LowStage:
+			r.Basis = BelowGaugings
+		}
+		nan := math.NaN()
+		r.Discharge = f.Rating.Discharge(h)
+		r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = nan, nan, nan, nan
 	default:
 		switch {
 		case h > f.HighStage:
@@ -284,7 +336,7 @@ func (t *ControlTable) row(h float64) (ControlRow, error) {
 	if h > f.HighStage && f.MaxDischarge > 0 {
 		r.Multiple = r.Discharge / f.MaxDischarge
 	}
-	if t.BandsWithheld {
+	if t.BandsWithheld || !bands {
 		nan := math.NaN()
 		r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = nan, nan, nan, nan
 	}
@@ -299,7 +351,36 @@ func (t *ControlTable) At(h float64) (ControlRow, error) {
 	if len(t.Rows) == 0 || math.IsNaN(h) || h < t.Rows[0].Stage-TableEdge || h > t.Rows[len(t.Rows)-1].Stage+TableEdge {
 		return ControlRow{}, fmt.Errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
 	}
-	return t.row(h)
+	return t.row(h, true)
+}
+
+// LookupControlRows evaluates a table's rule (ControlTable.At, without
+// the bands) at every hundredth of stage from its first row (the first
+// offset) to its last, for a printed lookup sheet: hundredths below the
+// first row are left out (no flow). A range longer than
+// rating.MaxLookupStages is rating.ErrLookupRange.
+func LookupControlRows(t *ControlTable) ([]ControlRow, error) {
+	if t == nil || len(t.Rows) == 0 {
+		return nil, nil
+	}
+	lo, hi := t.Rows[0].Stage, t.Rows[len(t.Rows)-1].Stage
+	stages, err := rating.LookupStages(lo, hi)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]ControlRow, 0, len(stages))
+	for _, h := range stages {
+		if h < lo-lookupEdge {
+			continue // below the offset: no flow, left blank
+		}
+		row, err := t.row(math.Min(math.Max(h, lo), hi), false)
+		if err != nil {
+			return nil, err
+		}
+		row.Stage = h
+		out = append(out, row)
+	}
+	return out, nil
 }
 
 // Band returns the fitted rating's 95 % bands at gauge height h (without

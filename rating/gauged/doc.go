@@ -8,15 +8,19 @@
 // Discharges are in the unit system's discharge unit. Gaugings are never
 // modified and reports keep them in input order.
 //
-// Two rating engines live here. FitPowerLaw, LookupTable and Analyze fit
-// segments sharing one gauge height of zero flow and extend the table by
-// the scaled hydraulic rating. The controls engine builds a rating from
-// one to MaxControls controls, each Q = A·(h − B)^C with its own offset,
-// joined by Replace or Add (NewRating); fits it by weighted least squares
+// Two rating engines live here. The controls engine, which Analyze (the
+// report of the fit command) runs, builds a rating from one to
+// MaxControls controls, each Q = A·(h − B)^C with its own offset, joined
+// by Replace or Add (NewRating); fits it by weighted least squares
 // (FitControls) or by Bayesian inference with priors from the survey
-// (FitBayes, HydraulicPrior, CrestPrior, BankStage); tests it (Johnson's
-// zero-flow estimate, the ISO tests of a relation); and lays it out as a
-// table with a parametric and a total 95 % band on every row, the
-// conveyance-slope extension above the gaugings for least squares
-// (ControlFit.Table).
+// (FitBayes, HydraulicPrior, TablePrior, CrestPrior, BankStage); tests it
+// (Johnson's zero-flow estimate, the ISO tests of a relation, an F test
+// of one more control); and lays it out as a table with a parametric and
+// a total 95 % band on every row, the conveyance-slope extension above
+// the gaugings for least squares (ControlTable). A hydraulic rating is a
+// section's (rating.HydraulicCurve) or a table's (TableRating, read at
+// gauge heights), for comparison, extension and prior alike. The older
+// engine, FitPowerLaw and LookupTable, fits segments sharing one gauge
+// height of zero flow and extends the table by the scaled hydraulic
+// rating; it is kept as an independent check of the new one.
 package gauged

@@ -78,6 +78,26 @@ var ErrExtension = errors.New("no conveyance-slope extension")
 //	Techniques of Water-Resources Investigations, book 3, chapter A10
 //	(extrapolation of rating curves: the conveyance-slope method).
 func FitConveyanceSlope(c rating.HydraulicCurve, stages, discharges, weights []float64) (ConveyanceSlope, error) {
+	return fitConveyanceSlope(reference{sec: &c}, stages, discharges, weights)
+}
+
+// FitConveyanceSlopeTable is FitConveyanceSlope on a hydraulic rating
+// given as a table at gauge heights, which has discharges but no
+// conveyance: its discharge Q_t(h) = K(h)·√S₀ stands in for the
+// conveyance, so each gauging's "slope" is the ratio (Q_i/Q_t(h_i))² =
+// S_i/S₀, fitted and extended as S is, and Q(h) = Q_t(h)·√(S(h)/S₀), the
+// same extension as with K for a table computed at slope S₀.
+//
+// References:
+//
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. USGS
+//	TWRI 3-A10 (the conveyance-slope method).
+func FitConveyanceSlopeTable(t *TableRating, stages, discharges, weights []float64) (ConveyanceSlope, error) {
+	return fitConveyanceSlope(reference{tab: t}, stages, discharges, weights)
+}
+
+// fitConveyanceSlope fits the extension on the reference's conveyance.
+func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (ConveyanceSlope, error) {
 	n := len(stages)
 	if len(discharges) != n || len(weights) != n {
 		panic("gauged: FitConveyanceSlope: slices of different lengths")
@@ -88,15 +108,15 @@ func FitConveyanceSlope(c rating.HydraulicCurve, stages, discharges, weights []f
 	}
 	x, y, w := make([]float64, n), make([]float64, n), make([]float64, n)
 	for i, h := range stages {
-		r, err := c.Row(h)
+		_, k, err := c.at(h)
 		if err != nil {
 			return s, err
 		}
-		if !(r.Conveyance > 0) || !(discharges[i] > 0) {
+		if !(k > 0) || !(discharges[i] > 0) {
 			return s, fmt.Errorf("%w: no conveyance or discharge at stage %g", ErrExtension, h)
 		}
-		sl := math.Pow(discharges[i]/r.Conveyance, 2)
-		s.Points = append(s.Points, SlopePoint{Stage: h, Discharge: discharges[i], Conveyance: r.Conveyance, Slope: sl})
+		sl := math.Pow(discharges[i]/k, 2)
+		s.Points = append(s.Points, SlopePoint{Stage: h, Discharge: discharges[i], Conveyance: k, Slope: sl})
 		x[i], y[i], w[i] = h, math.Log(sl), weights[i]
 	}
 	var sw, sx, sy float64

@@ -156,6 +156,10 @@ type ControlFit struct {
 	Johnson JohnsonEstimate
 	// Posterior is the Bayesian posterior (nil for least squares).
 	Posterior *Posterior
+	// Exponents are the exponents each control may take without a
+	// warning: ExponentRange of its kind, or for a Bayesian fit with a
+	// prior from the survey that range widened to the section's own.
+	Exponents []ExponentBounds
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 
@@ -249,7 +253,7 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 		}
 	}
 	f.finishLSQ(ssr)
-	f.finishCommon(gs, reasons)
+	f.finishCommon(gs, reasons, nil)
 	return f, nil
 }
 
@@ -764,7 +768,9 @@ func allZero(v []float64) bool {
 
 // finishCommon fills what both methods report: residuals of every
 // gauging, the tests of the relation, Johnson's check and warnings.
-func (f *ControlFit) finishCommon(gs []Gauging, reasons []string) {
+// ranges, when not nil, are the exponents each control may take without a
+// warning (default ExponentRange of its kind).
+func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []ExponentBounds) {
 	d := f.d
 	f.LowStage, f.HighStage, f.MaxDischarge = d.lo, d.hi, d.qmax
 	f.N = d.n()
@@ -810,5 +816,12 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string) {
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
 		}
 	}
-	f.Warnings = append(f.Warnings, f.Rating.ExponentWarnings()...)
+	if ranges == nil {
+		for _, c := range f.Rating.Controls {
+			lo, hi := ExponentRange(c.Kind)
+			ranges = append(ranges, ExponentBounds{Low: lo, High: hi})
+		}
+	}
+	f.Exponents = ranges
+	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 }

@@ -49,6 +49,11 @@ type Posterior struct {
 	ModeLogPosterior float64
 	// Likelihood states the likelihood's convention in words.
 	Likelihood string
+	// PriorSources says, per control, where its prior came from.
+	PriorSources []string
+
+	prior    Rating // the rating of the prior means (see ControlFit.PriorRating)
+	hasPrior bool
 
 	dim   int
 	draws []chainResult
@@ -73,6 +78,8 @@ func (b *bayesProblem) posterior(res []chainResult, modes []mode) *Posterior {
 	p := &Posterior{Chains: o.Chains, Draws: o.Draws, Pilot: o.Pilot, Seed: o.Seed, Modes: len(modes),
 		ModeLogPosterior: modes[0].lp, dim: dim, draws: res, RHatMax: math.Inf(-1), ESSMin: math.Inf(1)}
 	p.Likelihood = b.likelihoodText()
+	p.PriorSources = append([]string(nil), b.sources...)
+	p.prior, p.hasPrior = b.priorRating()
 	for _, c := range res {
 		p.ChainAcceptance = append(p.ChainAcceptance, c.acceptance)
 		p.Acceptance += c.acceptance / float64(len(res))
@@ -257,4 +264,35 @@ func (f *ControlFit) PosteriorBand(h float64) (pLo, pHi, tLo, tHi float64) {
 	pLo, pHi = stat.Quantile(lo, stat.Empirical, q, nil), stat.Quantile(hi, stat.Empirical, q, nil)
 	tLo, tHi = stat.Quantile(lo, stat.Empirical, t, nil), stat.Quantile(hi, stat.Empirical, t, nil)
 	return pLo, pHi, math.Min(tLo, pLo), math.Max(tHi, pHi)
+}
+
+// priorRating returns the rating of the prior means, when every control's
+// coefficient and exponent have an informative prior and every offset and
+// breakpoint a finite prior mean.
+func (b *bayesProblem) priorRating() (Rating, bool) {
+	for _, ok := range b.informative {
+		if !ok {
+			return Rating{}, false
+		}
+	}
+	p := append([]float64(nil), b.m.base...)
+	for i, pr := range b.priors {
+		if b.m.isStage(i) && !finite(pr.mean) {
+			return Rating{}, false
+		}
+		p[i] = pr.mean
+	}
+	return b.m.rating(p)
+}
+
+// PriorRating returns the rating of a Bayesian fit's prior means (every
+// control at the mean of its priors of ln A, C, offset and breakpoint):
+// what the survey says before the gaugings. ok is false for least
+// squares and when a control has weak priors (the rating would mean
+// nothing) or an offset or breakpoint without a prior mean.
+func (f *ControlFit) PriorRating() (Rating, bool) {
+	if f.Posterior == nil || !f.Posterior.hasPrior {
+		return Rating{}, false
+	}
+	return f.Posterior.prior, true
 }

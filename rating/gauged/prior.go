@@ -147,16 +147,6 @@ var ErrPrior = errors.New("no prior from this section")
 //	Chow, V. T. (1959). Open-Channel Hydraulics. McGraw-Hill, eq. 6-9
 //	(conveyance proportional to 1/n).
 func HydraulicPrior(c rating.HydraulicCurve, from, to float64, opt HydraulicPriorOptions) (ControlPrior, error) {
-	ncv, scv := opt.NCV, opt.SlopeCV
-	if ncv == 0 {
-		ncv = DefaultNCV
-	}
-	if scv == 0 {
-		scv = DefaultSlopeCV
-	}
-	if !(ncv >= 0) || !(scv >= 0) || !(to > from) {
-		return ControlPrior{}, fmt.Errorf("%w: range %g to %g, n cv %g, slope cv %g", ErrPrior, from, to, ncv, scv)
-	}
 	q := func(h float64) (float64, error) {
 		r, err := c.Row(h)
 		if err != nil {
@@ -173,18 +163,7 @@ func HydraulicPrior(c rating.HydraulicCurve, from, to float64, opt HydraulicPrio
 		}
 		return s, nil
 	}
-	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset)
-	if err != nil {
-		return ControlPrior{}, err
-	}
-	sdA := math.Sqrt(0.25*math.Pow(logSD(scv), 2) + math.Pow(logSD(ncv), 2))
-	return ControlPrior{
-		LogCoefficient: ParamPrior{Mean: lnA, SD: sdA},
-		Exponent:       ParamPrior{Mean: cc, SD: HydraulicExponentSD},
-		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - c.Bottom())},
-		Source: fmt.Sprintf("hydraulic rating of the section from %.4g to %.4g (Q = %.4g·(h − %.4g)^%.3g, n cv %.2g, slope cv %.2g)",
-			from, to, math.Exp(lnA), b, cc, ncv, scv),
-	}, nil
+	return curvePrior(q, c.Bottom(), from, to, opt, "hydraulic rating of the section")
 }
 
 // CrestPrior returns the prior of a section control from critical flow

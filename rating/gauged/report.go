@@ -4,11 +4,14 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"wetline/rating"
 )
 
-// Options configure a gaugings report. The zero value fits one
-// power-law segment with e fitted and no section.
+// Options configure a gaugings report. The zero value fits one control of
+// unknown kind by least squares, with its offset fitted and no section.
 type Options struct {
 	// Site names the site or section in reports.
 	Site string
@@ -17,87 +20,256 @@ type Options struct {
 	// Hydraulic is the section's hydraulic rating at gauge heights (its
 	// Datum relates gauge height to elevation); nil without a section.
 	Hydraulic *rating.HydraulicCurve
+	// HydraulicTable is a hydraulic rating given as a table at gauge
+	// heights (a section's or a step-backwater rating read from a file),
+	// used instead of a section: comparison, extension, prior and the
+	// Hydraulic column, but no n back-calculation. Ignored when Hydraulic
+	// is set.
+	HydraulicTable *TableRating
+	// Crest is a surveyed crest section of a section control (riffle, weir
+	// crest; its Datum relates it to the gauge): the prior of section
+	// controls of a Bayesian fit. Nil: none.
+	Crest *rating.HydraulicCurve
 	// ChannelOnly back-calculates only the channel's n.
 	ChannelOnly bool
 	// CompareOnly compares the gaugings with the hydraulic rating and
-	// fits nothing (needs Hydraulic).
+	// fits nothing (needs Hydraulic or HydraulicTable).
 	CompareOnly bool
-	// ZeroFlowControl fixes e at the section's lowest point (needs
-	// Hydraulic); it overrides Fit's zero-flow fields.
+	// ZeroFlowControl fixes the first control's offset at the section's
+	// lowest point, or the table's zero-flow stage (needs one); it
+	// overrides Controls' offset fields.
 	ZeroFlowControl bool
-	// Fit configures the power-law fit.
-	Fit FitOptions
-	// Table configures the lookup table (its Hydraulic is set from above).
-	Table TableOptions
+	// Method is how the rating is fitted (default LeastSquares).
+	Method Method
+	// Controls are the controls, breakpoints, first offset and selection
+	// of gaugings (its Units are set from above).
+	Controls ControlOptions
+	// Bayes configures a Bayesian fit: its ControlOptions, Hydraulic,
+	// HydraulicTable and Crest are set from above; the rest as given.
+	Bayes BayesOptions
+	// Table configures the table (its Hydraulic and HydraulicTable are
+	// set from above).
+	Table ControlTableOptions
 	// Lookup also evaluates the table's rule at every hundredth of stage
 	// (Report.Lookup), for a printed lookup sheet.
 	Lookup bool
+	// Floodplain lets a Bayesian fit of one control on a section with
+	// overbanks, whose table goes above the bank stage (BankStage), add a
+	// second control there that adds to the first: a floodplain joining
+	// the channel, its prior from the overbanks' share of the hydraulic
+	// rating and its breakpoint's from the bank stage, so that the table
+	// above the gaugings follows the floodplain instead of one power law.
+	// Given breakpoints turn it off.
+	Floodplain bool
 }
 
 // CurvePoint is the hydraulic rating at one gauge height.
 type CurvePoint struct {
 	// Stage is the gauge height (length unit).
 	Stage float64
-	// Hydraulic is the discharge with the survey's n; Calibrated with n
-	// times the calibration factor (NaN without a calibration).
+	// Hydraulic is the discharge with the survey's n (or the table's);
+	// Calibrated with n times the calibration factor (NaN without a
+	// calibration).
 	Hydraulic, Calibrated float64
 }
 
-// Report holds everything a report on gaugings shows: the
-// comparison with the hydraulic rating, the back-calculated n, the fit,
-// the lookup table and the hydraulic curve, for text, JSON, CSV, workbook
-// and plot writers alike. Fields that do not apply are nil.
+// MoreControlsTest is the F test of one more control: whether a rating of
+// one more control (a channel control replacing the top one, its
+// breakpoint fitted), fitted by least squares, cuts the residual sum of
+// squares by more than chance would,
+//
+//	F = ((SSR_k − SSR_k+1)/(p_k+1 − p_k)) / (SSR_k+1/(n − p_k+1)),
+//
+// with SSR_k the weighted sum of squares in ln Q of k controls and p their
+// parameters (nested models; common practice).
+type MoreControlsTest struct {
+	// Made reports that the test was made (breakpoints fitted, fewer than
+	// MaxControls controls, enough gaugings).
+	Made bool
+	// Controls is the number of controls tested against one more.
+	Controls int
+	// F is the statistic and P its p-value (NaN when not made).
+	F, P float64
+	// StandardErrorPercent is the standard error of estimate with one
+	// more control (NaN when not made).
+	StandardErrorPercent float64
+	// Poor reports P < PoorFitLevel: the rating has too few controls.
+	Poor bool
+}
+
+// Report holds everything a report on gaugings shows: the comparison with
+// the hydraulic rating, the back-calculated n, the fit of the rating of
+// controls with its tests, the table with both bands and the hydraulic
+// curve, for text, JSON, CSV, workbook and plot writers alike. Fields that
+// do not apply are nil.
 type Report struct {
 	// Site, Units and Datum (elevation of the gauge's zero in the survey's
-	// datum; NaN without a section) describe the data.
+	// datum, length unit; NaN without a section) describe the data.
 	Site  string
 	Units rating.Units
 	Datum float64
-	// Slope is the friction slope of the hydraulic rating (NaN without).
+	// Slope is the friction slope of the hydraulic rating (dimensionless;
+	// NaN without a section).
 	Slope float64
+	// HydraulicSource names the hydraulic rating: "section NAME",
+	// "table NAME" or "" without one.
+	HydraulicSource string
 	// Gaugings are the measurements, in input order.
 	Gaugings []Gauging
-	// Comparison and Calibration need a section.
+	// Selection is how the gaugings fitted were chosen.
+	Selection Selection
+	// Comparison needs a hydraulic rating; Calibration a section.
 	Comparison  *Comparison
 	Calibration *Calibration
+	// Method is the fit's method.
+	Method Method
 	// Fit and Table are nil in comparison-only mode.
-	Fit   *Fit
-	Table *FitTable
-	// Curve is the hydraulic rating from the section's lowest point to its
-	// lower end, at round gauge heights (nil without a section).
+	Fit   *ControlFit
+	Table *ControlTable
+	// MoreControls is the F test of one more control.
+	MoreControls MoreControlsTest
+	// Prior is the rating of a Bayesian fit's prior means (nil without
+	// informative priors; see ControlFit.PriorRating).
+	Prior *Rating
+	// BankStage is the gauge height where the section's overbanks start
+	// to flow (length unit; NaN without a section or overbanks).
+	BankStage float64
+	// FloodplainAdded reports the control added by Options.Floodplain.
+	FloodplainAdded bool
+	// Curve is the hydraulic rating from its lowest point to its top, at
+	// round gauge heights (the table's own rows for a table; nil
+	// without).
 	Curve []CurvePoint
 	// Warnings gathers the warnings of every part.
 	Warnings []string
-	// Hydraulic is the section's hydraulic rating the report was made
-	// with (nil without a section).
-	Hydraulic *rating.HydraulicCurve
-	// Lookup is the table's rule at every hundredth of stage from e to the
-	// table's top (see Options.Lookup); nil when not asked for.
-	Lookup []FitRow
+	// Hydraulic and HydraulicTable are the hydraulic rating the report was
+	// made with (nil without).
+	Hydraulic      *rating.HydraulicCurve
+	HydraulicTable *TableRating
+	// Lookup is the table's rule at every hundredth of stage from the
+	// first offset to the table's top (see Options.Lookup), without bands;
+	// nil when not asked for.
+	Lookup []ControlRow
 	// Provenance says what the report was computed from.
 	Provenance rating.Provenance
 	// Figures are the report's pictures (none until drawn).
 	Figures []rating.Figure
 }
 
-// Analyze compares, calibrates and fits gaugings as opt says.
-func Analyze(gs []Gauging, opt Options) (*Report, error) {
-	r := &Report{Hydraulic: opt.Hydraulic, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(), Gaugings: gs}
-	c := opt.Hydraulic
-	if c == nil && (opt.CompareOnly || opt.ZeroFlowControl) {
-		return nil, fmt.Errorf("comparison with a hydraulic rating and e from the survey's control need a section")
+// UncertaintyConvention states, for every report, how a gauging's
+// uncertainty enters a fit: the convention of Gauging.LogSigma.
+func UncertaintyConvention() string {
+	return fmt.Sprintf("each gauging's uncertainty is its uncertainty column (percent at 95 %%) or else its quality grade read as a 95 %% expanded uncertainty "+
+		"(excellent %g %%, good %g %%, fair %g %%, poor %g %%, unrated %g %%): σ = U/%.2f in ln Q",
+		rating.Excellent.WeightPercent(), rating.Good.WeightPercent(), rating.Fair.WeightPercent(),
+		rating.Poor.WeightPercent(), rating.Unrated.WeightPercent(), CoverageFactor95)
+}
+
+// UncertaintyPercent is the gauging's expanded uncertainty at the 95 %
+// level in percent of its discharge, as a fit uses it: its Uncertainty,
+// or else its quality's band (see LogSigma).
+func (g Gauging) UncertaintyPercent() float64 {
+	if g.Uncertainty > 0 {
+		return g.Uncertainty
 	}
-	if c != nil {
+	return g.Quality.WeightPercent()
+}
+
+// ErrNoHydraulic is returned for a report that needs a hydraulic rating
+// (comparison only, the offset from the survey) and has none.
+var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating table")
+
+// Analyze compares, calibrates and fits gaugings as opt says: the
+// comparison with the hydraulic rating (a section's or a table's), the n
+// back-calculation (a section), the fit of a rating of controls by least
+// squares (FitControls) or Bayesian inference (FitBayes), the F test of
+// one more control, the table with both 95 % bands on every row
+// (ControlFit.Table) and, when asked, the lookup at every hundredth.
+// Errors: ErrNoHydraulic, and those of the parts.
+func Analyze(gs []Gauging, opt Options) (*Report, error) {
+	ref := referenceOf(opt.Hydraulic, opt.HydraulicTable)
+	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
+		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN()}
+	if !ref.ok() && (opt.CompareOnly || opt.ZeroFlowControl) {
+		return nil, fmt.Errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
+	}
+	if err := r.compare(gs, ref, opt); err != nil {
+		return nil, err
+	}
+	if opt.CompareOnly {
+		return r, nil
+	}
+	co := opt.Controls
+	co.Units = opt.Units
+	if r.wantFloodplain(opt) {
+		kind := ChannelControl
+		if len(co.Controls) == 1 && co.Controls[0].Kind != UnknownControl {
+			kind = co.Controls[0].Kind
+		}
+		co.Controls = []ControlSpec{{Kind: kind}, {Kind: ChannelControl, Joint: Add}}
+		r.FloodplainAdded = true
+	}
+	if opt.ZeroFlowControl {
+		co.OffsetFixed, co.Offset = true, ref.bottom()
+		co.OffsetSource = "survey control (the section's lowest point)"
+		if ref.tab != nil {
+			co.OffsetSource = "the hydraulic rating table's zero flow"
+		}
+	}
+	f, err := fitReport(gs, co, opt)
+	if err != nil {
+		return nil, err
+	}
+	r.Fit = f
+	r.Warnings = append(r.Warnings, f.Warnings...)
+	if pr, ok := f.PriorRating(); ok {
+		r.Prior = &pr
+	}
+	r.MoreControls = moreControls(gs, co, f)
+	if m := r.MoreControls; m.Poor {
+		r.Warnings = append(r.Warnings, fmt.Sprintf(
+			"%d control(s) fit these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
+			m.Controls, m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
+	}
+	to := opt.Table
+	to.Hydraulic, to.HydraulicTable = ref.sec, ref.tab
+	t, err := f.Table(to)
+	if err != nil {
+		return nil, err
+	}
+	r.Table = &t
+	r.Warnings = append(r.Warnings, t.Warnings...)
+	r.Warnings = append(r.Warnings, r.floodplainWarnings()...)
+	if opt.Lookup {
+		r.Lookup, err = LookupControlRows(&t)
+		if errors.Is(err, rating.ErrLookupRange) {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("no lookup table: %v", err))
+		} else if err != nil {
+			return nil, err
+		}
+	}
+	return r, nil
+}
+
+// compare fills the comparison, calibration, curve and bank stage.
+func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
+	switch {
+	case ref.sec != nil:
+		c := ref.sec
 		r.Datum, r.Slope = c.Datum, c.Options.Slope
+		r.HydraulicSource = "section"
+		if opt.Site != "" {
+			r.HydraulicSource += " " + opt.Site
+		}
 		cmp, err := Compare(gs, *c)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
-		cal, err := Calibrate(gs, *c, opt.ChannelOnly)
+		cal, err := calibrate(gs, *c, opt.ChannelOnly, opt.Controls.Selection)
 		if err != nil && !errors.Is(err, ErrCalibrate) {
-			return nil, err
+			return err
 		}
 		r.Warnings = append(r.Warnings, cal.Warnings...)
 		if err == nil {
@@ -105,42 +277,140 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 		} else {
 			r.Warnings = append(r.Warnings, err.Error())
 		}
-		if err := r.curve(c); err != nil {
-			return nil, err
+		if bank, ok, err := BankStage(*c); err == nil && ok {
+			r.BankStage = bank
+		}
+		return r.curve(c)
+	case ref.tab != nil:
+		r.HydraulicSource = "table " + ref.tab.Name()
+		cmp := CompareTable(gs, ref.tab)
+		r.Comparison = &cmp
+		r.Warnings = append(r.Warnings, cmp.Warnings...)
+		for _, p := range ref.tab.table.Points {
+			r.Curve = append(r.Curve, CurvePoint{Stage: p.Stage, Hydraulic: p.Discharge, Calibrated: math.NaN()})
 		}
 	}
-	if opt.CompareOnly {
-		return r, nil
+	return nil
+}
+
+// wantFloodplain reports whether Options.Floodplain adds a control.
+func (r *Report) wantFloodplain(opt Options) bool {
+	co := opt.Controls
+	if !opt.Floodplain || opt.Method != Bayesian || r.Hydraulic == nil || math.IsNaN(r.BankStage) || co.Breaks != nil || len(co.Controls) > 1 {
+		return false
 	}
-	fo := opt.Fit
-	fo.Units = opt.Units
-	if opt.ZeroFlowControl {
-		fo.ZeroFlowFixed, fo.ZeroFlow = true, c.Bottom()
-		fo.ZeroFlowSource = "survey control (the section's lowest point)"
+	top := r.Hydraulic.Top()
+	if opt.Table.To != 0 {
+		top = opt.Table.To
 	}
-	f, err := FitPowerLaw(gs, fo)
-	if err != nil {
-		return nil, err
+	return top > r.BankStage
+}
+
+// fitReport fits the rating by the options' method.
+func fitReport(gs []Gauging, co ControlOptions, opt Options) (*ControlFit, error) {
+	if opt.Method == Bayesian {
+		bo := opt.Bayes
+		bo.ControlOptions = co
+		bo.Hydraulic, bo.HydraulicTable, bo.Crest = opt.Hydraulic, opt.HydraulicTable, opt.Crest
+		if bo.Hydraulic != nil {
+			bo.HydraulicTable = nil
+		}
+		return FitBayes(gs, bo)
 	}
-	r.Fit = f
-	r.Warnings = append(r.Warnings, f.Warnings...)
-	to := opt.Table
-	to.Hydraulic = c
-	t, err := LookupTable(f, to)
-	if err != nil {
-		return nil, err
+	return FitControls(gs, co)
+}
+
+// moreControls makes the F test of one more control by least squares.
+func moreControls(gs []Gauging, co ControlOptions, f *ControlFit) MoreControlsTest {
+	k := len(f.Rating.Controls)
+	t := MoreControlsTest{Controls: k, F: math.NaN(), P: math.NaN(), StandardErrorPercent: math.NaN()}
+	if co.Breaks != nil || k >= MaxControls || f.N < (k+1)*MinPerSegment {
+		return t
 	}
-	r.Table = &t
-	if opt.Lookup {
-		r.Lookup, err = LookupRows(f, c, &t)
-		if errors.Is(err, rating.ErrLookupRange) {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("no lookup table: %v", err))
-		} else if err != nil {
-			return nil, err
+	base := f
+	if f.Method != LeastSquares {
+		var err error
+		if base, err = FitControls(gs, co); err != nil {
+			return t
 		}
 	}
-	r.Warnings = append(r.Warnings, t.Warnings...)
-	return r, nil
+	more := co
+	more.Controls = append(specsOf(co, k), ControlSpec{Kind: ChannelControl})
+	g, err := FitControls(gs, more)
+	if err != nil {
+		return t
+	}
+	ssr := base.StandardErrorLog * base.StandardErrorLog * float64(base.N-base.Params)
+	ssr2 := g.StandardErrorLog * g.StandardErrorLog * float64(g.N-g.Params)
+	d1, d2 := float64(g.Params-base.Params), float64(g.N-g.Params)
+	if !(ssr2 > 0) || !(ssr2 < ssr) || !(d1 > 0) || !(d2 > 0) || ssr <= fitZeroSSR*float64(base.N) {
+		return t
+	}
+	t.Made = true
+	t.F = ((ssr - ssr2) / d1) / (ssr2 / d2)
+	t.P = distuv.F{D1: d1, D2: d2}.Survival(t.F)
+	t.StandardErrorPercent = g.StandardErrorPercent
+	t.Poor = t.P < PoorFitLevel
+	return t
+}
+
+// specsOf returns the options' control specs, k of them (unknown kinds
+// when none were given).
+func specsOf(co ControlOptions, k int) []ControlSpec {
+	if len(co.Controls) == k {
+		return append([]ControlSpec(nil), co.Controls...)
+	}
+	return make([]ControlSpec, k)
+}
+
+// floodplainWarnings warns when the table carries the fitted controls,
+// not the hydraulics, above the gaugings and the hydraulic rating there
+// parts from them: the hydraulic rating scaled to meet the fit at the
+// highest gauging leaves the total band (or, without bands, differs by
+// more than the fit's standard error twice over), the mark of a shape a
+// power law carried on does not follow (a floodplain, a change of
+// control). With the section's bank stage below the table's top it says
+// so.
+func (r *Report) floodplainWarnings() []string {
+	f, t := r.Fit, r.Table
+	if t.Extension != nil || len(t.Rows) == 0 || !(r.Hydraulic != nil || r.HydraulicTable != nil) {
+		return nil
+	}
+	for _, c := range f.Rating.Controls[1:] {
+		if c.Joint == Add {
+			return nil
+		}
+	}
+	ref := referenceOf(r.Hydraulic, r.HydraulicTable)
+	qh, err := ref.discharge(f.HighStage)
+	if err != nil || !(qh > 0) {
+		return nil
+	}
+	scale := f.Rating.Discharge(f.HighStage) / qh
+	u := r.Units
+	for _, row := range t.Rows {
+		if row.Basis != FitAboveGaugings || !(row.Hydraulic > 0) {
+			continue
+		}
+		q := scale * row.Hydraulic
+		lo, hi := row.TotalLower, row.TotalUpper
+		if math.IsNaN(lo) || math.IsNaN(hi) {
+			d := 2 * f.StandardErrorLog
+			lo, hi = row.Discharge*math.Exp(-d), row.Discharge*math.Exp(d)
+		}
+		if q >= lo && q <= hi {
+			continue
+		}
+		msg := fmt.Sprintf("above the highest gauging the table carries the fitted controls on, but at %.4g %s the hydraulic rating scaled to meet them at the highest gauging gives %.4g %s, outside their total band (%.4g to %.4g %s): one power law carried on does not follow the hydraulics",
+			row.Stage, u.Length(), q, u.Discharge(), lo, hi, u.Discharge())
+		if !math.IsNaN(r.BankStage) && r.BankStage < t.Rows[len(t.Rows)-1].Stage {
+			msg += fmt.Sprintf("; the overbanks start to flow at %.3g %s: fit a control that adds there", r.BankStage, u.Length())
+		} else {
+			msg += "; fit another control, or extend by conveyance-slope (least squares)"
+		}
+		return []string{msg}
+	}
+	return nil
 }
 
 // curve fills the hydraulic curve at round gauge heights.

@@ -7,37 +7,46 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"time"
+
 	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
 // FitTableColumns returns the columns of a fitted lookup table as CSV, in
-// order. They are a contract with scripts; add columns after them.
+// order. They are a contract with scripts: the first seven are those of
+// earlier versions (lower_95 and upper_95 the band of the relation, as
+// parametric_lower_95 and parametric_upper_95); new columns come after.
 func FitTableColumns() []string {
-	return []string{"stage", "discharge", "extrapolated", "basis", "lower_95", "upper_95", "hydraulic"}
+	return []string{"stage", "discharge", "extrapolated", "basis", "lower_95", "upper_95", "hydraulic",
+		"parametric_lower_95", "parametric_upper_95", "total_lower_95", "total_upper_95", "gauged_multiple"}
 }
 
-// ComparisonColumns returns the columns of a gauging comparison as CSV.
+// ComparisonColumns returns the columns of a gauging comparison as CSV:
+// the first eleven as in earlier versions, then the uncertainty a fit
+// would give each gauging and its exclude text.
 func ComparisonColumns() []string {
 	return []string{"time", "stage", "discharge", "quality", "rated", "departure_percent", "shift",
-		"outside_band", "factor_on_n", "n", "source"}
+		"outside_band", "factor_on_n", "n", "source", "uncertainty_percent", "exclude"}
 }
 
 // GaugingTimeLayout is how gauging times are written.
 const GaugingTimeLayout = "2006-01-02T15:04:05"
 
-// WriteFitCSV writes the lookup table of a fit (FitTableColumns()),
-// or, in comparison-only mode, the gaugings against the hydraulic rating
+// WriteFitCSV writes the table of a fit (FitTableColumns()), or, in
+// comparison-only mode, the gaugings against the hydraulic rating
 // (ComparisonColumns()). Stages are gauge heights; undefined values are
-// empty cells. The CSV has no comment lines: the datum is stated by the
-// text and JSON reports.
+// empty cells. The CSV has no comment lines: the datum, the method and
+// the uncertainty convention are stated by the text and JSON reports.
 func WriteFitCSV(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	if r.Table != nil {
 		writeRecord(bw, FitTableColumns())
 		for _, row := range r.Table.Rows {
 			writeRecord(bw, []string{FormatFloat(row.Stage), FormatFloat(row.Discharge), fmt.Sprint(row.Extrapolated()),
-				row.Basis.String(), FormatFloat(row.Lower), FormatFloat(row.Upper), FormatFloat(row.Hydraulic)})
+				row.Basis.String(), FormatFloat(row.ParametricLower), FormatFloat(row.ParametricUpper), FormatFloat(row.Hydraulic),
+				FormatFloat(row.ParametricLower), FormatFloat(row.ParametricUpper), FormatFloat(row.TotalLower), FormatFloat(row.TotalUpper),
+				FormatFloat(row.Multiple)})
 		}
 		return bw.Flush()
 	}
@@ -51,13 +60,13 @@ func WriteFitCSV(w io.Writer, r *gauged.Report) error {
 			rec = append(rec, "", "", "", "")
 		}
 		f, n := calPoint(r, i)
-		rec = append(rec, FormatFloat(f), FormatFloat(n), fitCSVText(g.Source))
+		rec = append(rec, FormatFloat(f), FormatFloat(n), fitCSVText(g.Source), FormatFloat(g.UncertaintyPercent()), fitCSVText(g.Exclude))
 		writeRecord(bw, rec)
 	}
 	return bw.Flush()
 }
 
-// csvText quotes a CSV field when it needs it.
+// fitCSVText quotes a CSV field when it needs it.
 func fitCSVText(s string) string {
 	if strings.ContainsAny(s, ",\"\n\r") {
 		return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
@@ -74,14 +83,47 @@ func calPoint(r *gauged.Report, i int) (float64, float64) {
 	return p.Factor, p.N
 }
 
+// segmentTo is where control j of a fit stops: the next breakpoint, or
+// the highest gauging for the top control.
+func segmentTo(f *gauged.ControlFit, j int) float64 {
+	if j+1 < len(f.Controls) {
+		return f.Controls[j+1].From
+	}
+	return f.HighStage
+}
+
+// exponentBounds are the exponents control j may take without a warning.
+func exponentBounds(f *gauged.ControlFit, j int) (lo, hi float64) {
+	if j < len(f.Exponents) {
+		return f.Exponents[j].Low, f.Exponents[j].High
+	}
+	return gauged.ExponentRange(f.Controls[j].Kind)
+}
+
+// priorSource says where control j's prior came from ("" for least
+// squares).
+func priorSource(f *gauged.ControlFit, j int) string {
+	if f.Posterior == nil || j >= len(f.Posterior.PriorSources) {
+		return ""
+	}
+	return f.Posterior.PriorSources[j]
+}
+
 type jsonSegment struct {
-	FromStage     Float `json:"from_stage"`
-	ToStage       Float `json:"to_stage"`
-	Coefficient   Float `json:"coefficient"`
-	CoefficientSE Float `json:"coefficient_standard_error"`
-	ZeroFlowStage Float `json:"zero_flow_stage"`
-	Exponent      Float `json:"exponent"`
-	ExponentSE    Float `json:"exponent_standard_error"`
+	FromStage     Float  `json:"from_stage"`
+	ToStage       Float  `json:"to_stage"`
+	Coefficient   Float  `json:"coefficient"`
+	CoefficientSE Float  `json:"coefficient_standard_error"`
+	ZeroFlowStage Float  `json:"zero_flow_stage"`
+	Exponent      Float  `json:"exponent"`
+	ExponentSE    Float  `json:"exponent_standard_error"`
+	ZeroFlowSE    Float  `json:"zero_flow_standard_error"`
+	FromSE        Float  `json:"from_stage_standard_error"`
+	Control       string `json:"control"`
+	Kind          string `json:"kind"`
+	ExponentLow   Float  `json:"exponent_low"`
+	ExponentHigh  Float  `json:"exponent_high"`
+	Prior         string `json:"prior"`
 }
 
 type jsonGauging struct {
@@ -102,16 +144,26 @@ type jsonGauging struct {
 	HydOutside       bool   `json:"hydraulic_outside_band"`
 	FactorOnN        Float  `json:"factor_on_n"`
 	N                Float  `json:"n"`
+	Uncertainty      Float  `json:"uncertainty_percent"`
+	UncertaintyGiven Float  `json:"uncertainty_column"`
+	ExcludedReason   string `json:"excluded_reason"`
+	LogResidual      Float  `json:"log_residual"`
+	Weight           Float  `json:"weight"`
 }
 
 type jsonTableRow struct {
-	Stage        Float  `json:"stage"`
-	Discharge    Float  `json:"discharge"`
-	Extrapolated bool   `json:"extrapolated"`
-	Basis        string `json:"basis"`
-	Lower        Float  `json:"lower_95"`
-	Upper        Float  `json:"upper_95"`
-	Hydraulic    Float  `json:"hydraulic"`
+	Stage           Float  `json:"stage"`
+	Discharge       Float  `json:"discharge"`
+	Extrapolated    bool   `json:"extrapolated"`
+	Basis           string `json:"basis"`
+	Lower           Float  `json:"lower_95"`
+	Upper           Float  `json:"upper_95"`
+	Hydraulic       Float  `json:"hydraulic"`
+	ParametricLower Float  `json:"parametric_lower_95"`
+	ParametricUpper Float  `json:"parametric_upper_95"`
+	TotalLower      Float  `json:"total_lower_95"`
+	TotalUpper      Float  `json:"total_upper_95"`
+	Multiple        Float  `json:"gauged_multiple"`
 }
 
 type jsonBreak struct {
@@ -120,186 +172,364 @@ type jsonBreak struct {
 	Fixed bool  `json:"fixed"`
 }
 
+type jsonParam struct {
+	Name      string `json:"name"`
+	Mean      Float  `json:"mean"`
+	SD        Float  `json:"sd"`
+	P2_5      Float  `json:"p2_5"`
+	P50       Float  `json:"p50"`
+	P97_5     Float  `json:"p97_5"`
+	PriorMean Float  `json:"prior_mean"`
+	PriorSD   Float  `json:"prior_sd"`
+	RHat      Float  `json:"rhat"`
+	ESS       Float  `json:"ess"`
+	Derived   bool   `json:"derived"`
+}
+
+type jsonPosterior struct {
+	Parameters      []jsonParam `json:"parameters"`
+	RHatMax         Float       `json:"rhat_max"`
+	RHatParameter   string      `json:"rhat_parameter"`
+	ESSMin          Float       `json:"ess_min"`
+	ESSParameter    string      `json:"ess_parameter"`
+	Acceptance      Float       `json:"acceptance"`
+	ChainAcceptance []Float     `json:"chain_acceptance"`
+	Converged       bool        `json:"converged"`
+	RHatLimit       Float       `json:"rhat_limit"`
+	Chains          int         `json:"chains"`
+	Draws           int         `json:"draws_per_chain"`
+	Pilot           int         `json:"pilot_per_chain"`
+	Seed            uint64      `json:"seed"`
+	Modes           int         `json:"modes"`
+	Likelihood      string      `json:"likelihood"`
+	PriorSources    []string    `json:"prior_sources"`
+}
+
+type jsonTest struct {
+	N         int   `json:"n"`
+	Statistic Float `json:"statistic"`
+	P         Float `json:"p"`
+	Failed    bool  `json:"failed"`
+}
+
+type jsonTests struct {
+	Level Float    `json:"level"`
+	Sign  jsonTest `json:"sign"`
+	Runs  jsonTest `json:"runs"`
+	Mean  jsonTest `json:"mean_departure"`
+}
+
+type jsonJohnson struct {
+	OK            bool   `json:"ok"`
+	ZeroFlowStage Float  `json:"zero_flow_stage"`
+	Q1            Float  `json:"q1"`
+	Q2            Float  `json:"q2"`
+	Q3            Float  `json:"q3"`
+	G1            Float  `json:"g1"`
+	G2            Float  `json:"g2"`
+	G3            Float  `json:"g3"`
+	Note          string `json:"note"`
+}
+
+type jsonMore struct {
+	Made      bool  `json:"made"`
+	Controls  int   `json:"controls"`
+	F         Float `json:"f"`
+	P         Float `json:"p"`
+	SEPercent Float `json:"standard_error_percent"`
+	Poor      bool  `json:"poor"`
+}
+
+type jsonSelection struct {
+	From     string   `json:"period_from"`
+	To       string   `json:"period_to"`
+	Exclude  []string `json:"exclude_times"`
+	Fitted   int      `json:"fitted"`
+	Excluded int      `json:"excluded"`
+}
+
+type jsonExtrapolation struct {
+	ScaleFactor     Float           `json:"scale_factor"`
+	ScaleStage      Float           `json:"scale_stage"`
+	Note            string          `json:"note"`
+	LargestGauged   Float           `json:"largest_gauged_discharge"`
+	MaxMultiple     Float           `json:"max_gauged_multiple"`
+	WarnMultiple    Float           `json:"warn_gauged_multiple"`
+	ConveyanceSlope *jsonConveyance `json:"conveyance_slope"`
+}
+
+type jsonConveyance struct {
+	Gaugings   int   `json:"gaugings"`
+	Level      bool  `json:"level"`
+	LogSlope   Float `json:"log_slope"`
+	LogSlopeSE Float `json:"log_slope_standard_error"`
+	Trend      Float `json:"trend"`
+	TrendSE    Float `json:"trend_standard_error"`
+	Centre     Float `json:"centre_stage"`
+	TrendP     Float `json:"trend_p"`
+	ScatterLog Float `json:"scatter_log"`
+}
+
+type jsonControl struct {
+	Kind    string `json:"kind"`
+	Control string `json:"control"`
+	A       Float  `json:"coefficient"`
+	B       Float  `json:"zero_flow_stage"`
+	C       Float  `json:"exponent"`
+	From    Float  `json:"from_stage"`
+}
+
+// jsonFitReport is the JSON object of a gaugings report, in the key
+// order of its contract: the keys of earlier versions first, new keys
+// after the table.
+type jsonFitReport struct {
+	Site          string             `json:"site"`
+	Units         map[string]string  `json:"units"`
+	Datum         Float              `json:"datum"`
+	Slope         Float              `json:"slope"`
+	ZeroFlow      any                `json:"zero_flow"`
+	Segments      []jsonSegment      `json:"segments"`
+	Breakpoints   []jsonBreak        `json:"breakpoints"`
+	SEPercent     Float              `json:"standard_error_percent"`
+	SELog         Float              `json:"standard_error_log"`
+	Fitted        int                `json:"gaugings_fitted"`
+	Params        int                `json:"parameters"`
+	PoorFit       bool               `json:"poor_fit"`
+	Gaugings      []jsonGauging      `json:"gaugings"`
+	Calibration   any                `json:"calibration"`
+	Extrapolation *jsonExtrapolation `json:"extrapolation"`
+	Table         []jsonTableRow     `json:"table"`
+	Method        string             `json:"method"`
+	Convention    string             `json:"uncertainty_convention"`
+	HydSource     string             `json:"hydraulic_source"`
+	BankStage     Float              `json:"bank_stage"`
+	Floodplain    bool               `json:"floodplain_added"`
+	Selection     jsonSelection      `json:"selection"`
+	BandNote      string             `json:"band_note"`
+	BandsWithheld bool               `json:"bands_withheld"`
+	MoreControls  *jsonMore          `json:"more_controls"`
+	Tests         *jsonTests         `json:"relation_tests"`
+	Johnson       *jsonJohnson       `json:"johnson"`
+	Posterior     *jsonPosterior     `json:"posterior"`
+	Prior         []jsonControl      `json:"prior_rating"`
+	Warnings      []string           `json:"warnings"`
+	Caution       string             `json:"caution"`
+}
+
 // WriteFitJSON writes a gaugings report as one JSON object:
 //
 //	{"site","units","datum","slope","zero_flow":{...},"segments":[...],
-//	 "breakpoints":[...],"standard_error_percent","gaugings":[...],
+//	 "breakpoints":[...],"standard_error_percent","standard_error_log",
+//	 "gaugings_fitted","parameters","poor_fit","gaugings":[...],
 //	 "calibration":{...},"extrapolation":{...},"table":[...],
-//	 "warnings":[...],"caution"}
+//	 "method","uncertainty_convention","hydraulic_source","bank_stage",
+//	 "floodplain_added",
+//	 "selection":{...},"band_note","bands_withheld","more_controls":{...},
+//	 "relation_tests":{...},"johnson":{...},"posterior":{...},
+//	 "prior_rating":[...],"warnings":[...],"caution"}
 //
-// Each segment has from_stage, to_stage, coefficient, zero_flow_stage and
-// exponent (with standard errors); each gauging stage, discharge, fitted,
-// departure_percent and shift against the fit, and the same against the
-// hydraulic rating; each table row stage, discharge and extrapolated.
-// Stages are gauge heights. Parts that do not apply are null or empty.
+// Each segment (one per control) has from_stage, to_stage, coefficient,
+// its own zero_flow_stage and exponent (with standard errors), control
+// (replace or add), kind (section, channel, unknown) and the exponent
+// range of its kind; each gauging stage, discharge, fitted,
+// departure_percent, shift, excluded with its excluded_reason, and its
+// uncertainty_percent; each table row stage, discharge, extrapolated,
+// basis, the parametric and total 95 % bands (lower_95 and upper_95 repeat
+// the parametric band, as in earlier versions) and gauged_multiple;
+// posterior (Bayesian only, else null) parameters[] with name, mean, sd,
+// p2_5, p50, p97_5, prior_mean, prior_sd, and rhat_max, ess_min,
+// acceptance. Stages are gauge heights. Parts that do not apply are null
+// or empty; undefined numbers are null.
 func WriteFitJSON(w io.Writer, r *gauged.Report) error {
-	out := struct {
-		Site          string            `json:"site"`
-		Units         map[string]string `json:"units"`
-		Datum         Float             `json:"datum"`
-		Slope         Float             `json:"slope"`
-		ZeroFlow      any               `json:"zero_flow"`
-		Segments      []jsonSegment     `json:"segments"`
-		Breakpoints   []jsonBreak       `json:"breakpoints"`
-		SEPercent     Float             `json:"standard_error_percent"`
-		SELog         Float             `json:"standard_error_log"`
-		Fitted        int               `json:"gaugings_fitted"`
-		Params        int               `json:"parameters"`
-		PoorFit       bool              `json:"poor_fit"`
-		Gaugings      []jsonGauging     `json:"gaugings"`
-		Calibration   any               `json:"calibration"`
-		Extrapolation any               `json:"extrapolation"`
-		Table         []jsonTableRow    `json:"table"`
-		Warnings      []string          `json:"warnings"`
-		Caution       string            `json:"caution"`
-	}{Site: r.Site, Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
+	out := jsonFitReport{Site: r.Site, Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
-		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: r.Warnings, Caution: rating.Caution}
-	if out.Warnings == nil {
-		out.Warnings = []string{}
-	}
+		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: nonNil(r.Warnings), Caution: rating.Caution,
+		Convention: gauged.UncertaintyConvention(), HydSource: r.HydraulicSource, BankStage: Float(r.BankStage), Floodplain: r.FloodplainAdded,
+		Selection: jsonSelectionOf(r)}
 	if f := r.Fit; f != nil {
-		out.ZeroFlow = map[string]any{"stage": Float(f.ZeroFlow), "standard_error": Float(f.ZeroFlowSE),
-			"fixed": f.ZeroFlowFixed, "source": f.ZeroFlowSource}
-		for _, s := range f.Segments {
-			out.Segments = append(out.Segments, jsonSegment{Float(s.From), Float(s.To), Float(s.Coefficient), Float(s.CoefficientSE),
-				Float(s.ZeroFlow), Float(s.Exponent), Float(s.ExponentSE)})
-		}
-		for i, b := range f.Breaks {
-			out.Breakpoints = append(out.Breakpoints, jsonBreak{Float(b), Float(f.BreaksSE[i]), f.BreaksFixed})
-		}
-		out.SEPercent, out.SELog = Float(f.StandardErrorPercent), Float(f.StandardErrorLog)
-		out.Fitted, out.Params, out.PoorFit = f.N, f.Params, f.PoorFit
+		fillJSONFit(&out, r, f)
 	}
 	for i, g := range r.Gaugings {
-		nan := Float(math.NaN())
-		jg := jsonGauging{Time: g.Time.Format(GaugingTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
-			Quality: g.Quality.String(), Note: g.Note, Source: g.Source,
-			Fitted: nan, DeparturePercent: nan, Shift: nan, Hydraulic: nan, HydDeparture: nan, HydShift: nan}
-		if r.Fit != nil {
-			res := r.Fit.Residuals[i]
-			jg.Fitted, jg.DeparturePercent, jg.Shift = Float(res.Fitted), Float(res.DeparturePercent), Float(res.Shift)
-			jg.OutsideBand, jg.Excluded = res.OutsideBand, res.Excluded
-		}
-		if r.Comparison != nil {
-			c := r.Comparison.Residuals[i]
-			jg.Hydraulic, jg.HydDeparture, jg.HydShift, jg.HydOutside = Float(c.Fitted), Float(c.DeparturePercent), Float(c.Shift), c.OutsideBand
-		}
-		f, n := calPoint(r, i)
-		jg.FactorOnN, jg.N = Float(f), Float(n)
-		out.Gaugings = append(out.Gaugings, jg)
+		out.Gaugings = append(out.Gaugings, jsonGaugingOf(r, i, g))
 	}
 	if c := r.Calibration; c != nil {
 		out.Calibration = map[string]any{"factor": Float(c.Factor), "channel_only": c.ChannelOnly,
 			"standard_error_percent": Float(c.StandardErrorPercent)}
 	}
 	if t := r.Table; t != nil {
-		out.Extrapolation = map[string]any{"scale_factor": Float(t.ScaleFactor), "scale_stage": Float(t.ScaleStage), "note": t.ScaleNote}
+		out.Extrapolation = jsonExtrapolationOf(r, t)
+		out.BandNote, out.BandsWithheld = t.BandNote, t.BandsWithheld
 		for _, row := range t.Rows {
 			out.Table = append(out.Table, jsonTableRow{Float(row.Stage), Float(row.Discharge), row.Extrapolated(), row.Basis.String(),
-				Float(row.Lower), Float(row.Upper), Float(row.Hydraulic)})
+				Float(row.ParametricLower), Float(row.ParametricUpper), Float(row.Hydraulic),
+				Float(row.ParametricLower), Float(row.ParametricUpper), Float(row.TotalLower), Float(row.TotalUpper), Float(row.Multiple)})
 		}
 	}
 	return writeJSON(w, out)
 }
 
-// WriteFitText writes a gaugings report for reading: the datum,
-// the fitted equation with standard errors, every gauging's departures,
-// the back-calculated n, the lookup table with extrapolated rows marked,
-// the warnings and the caution.
+// fillJSONFit fills the fit's part of the JSON report.
+func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
+	c0 := f.Controls[0]
+	out.ZeroFlow = map[string]any{"stage": Float(c0.B), "standard_error": Float(c0.BSE),
+		"fixed": f.OffsetFixed, "source": f.OffsetSource}
+	for j, c := range f.Controls {
+		lo, hi := exponentBounds(f, j)
+		out.Segments = append(out.Segments, jsonSegment{Float(c.From), Float(segmentTo(f, j)), Float(c.A), Float(c.ASE),
+			Float(c.B), Float(c.C), Float(c.CSE), Float(c.BSE), Float(c.FromSE), c.Joint.String(), c.Kind.String(),
+			Float(lo), Float(hi), priorSource(f, j)})
+		if j > 0 {
+			out.Breakpoints = append(out.Breakpoints, jsonBreak{Float(c.From), Float(c.FromSE), f.BreaksFixed})
+		}
+	}
+	out.SEPercent, out.SELog = Float(f.StandardErrorPercent), Float(f.StandardErrorLog)
+	out.Fitted, out.Params, out.PoorFit = f.N, f.Params, r.MoreControls.Poor
+	out.Method = f.Method.String()
+	m := r.MoreControls
+	out.MoreControls = &jsonMore{m.Made, m.Controls, Float(m.F), Float(m.P), Float(m.StandardErrorPercent), m.Poor}
+	test := func(t gauged.RelationTest) jsonTest { return jsonTest{t.N, Float(t.Statistic), Float(t.P), t.Failed} }
+	out.Tests = &jsonTests{Float(gauged.RelationTestLevel), test(f.Tests.Sign), test(f.Tests.Runs), test(f.Tests.Mean)}
+	j := f.Johnson
+	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note}
+	if p := f.Posterior; p != nil {
+		jp := &jsonPosterior{Parameters: []jsonParam{}, RHatMax: Float(p.RHatMax), RHatParameter: p.RHatParam, ESSMin: Float(p.ESSMin),
+			ESSParameter: p.ESSParam, Acceptance: Float(p.Acceptance), Converged: p.Converged, RHatLimit: Float(gauged.RHatLimit),
+			Chains: p.Chains, Draws: p.Draws, Pilot: p.Pilot, Seed: p.Seed, Modes: p.Modes, Likelihood: p.Likelihood,
+			PriorSources: nonNil(p.PriorSources)}
+		for _, a := range p.ChainAcceptance {
+			jp.ChainAcceptance = append(jp.ChainAcceptance, Float(a))
+		}
+		for _, s := range p.Parameters {
+			jp.Parameters = append(jp.Parameters, jsonParam{s.Name, Float(s.Mean), Float(s.SD), Float(s.P2_5), Float(s.P50), Float(s.P97_5),
+				Float(s.PriorMean), Float(s.PriorSD), Float(s.RHat), Float(s.ESS), s.Derived})
+		}
+		out.Posterior = jp
+	}
+	if r.Prior != nil {
+		out.Prior = []jsonControl{}
+		for _, c := range r.Prior.Controls {
+			out.Prior = append(out.Prior, jsonControl{c.Kind.String(), c.Joint.String(), Float(c.A), Float(c.B), Float(c.C), Float(c.From)})
+		}
+	}
+}
+
+// jsonGaugingOf is gauging i of the JSON report.
+func jsonGaugingOf(r *gauged.Report, i int, g gauged.Gauging) jsonGauging {
+	nan := Float(math.NaN())
+	jg := jsonGauging{Time: g.Time.Format(GaugingTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
+		Quality: g.Quality.String(), Note: g.Note, Source: g.Source,
+		Fitted: nan, DeparturePercent: nan, Shift: nan, Hydraulic: nan, HydDeparture: nan, HydShift: nan,
+		Uncertainty: Float(g.UncertaintyPercent()), UncertaintyGiven: nan, LogResidual: nan, Weight: nan}
+	if g.Uncertainty > 0 {
+		jg.UncertaintyGiven = Float(g.Uncertainty)
+	}
+	if r.Fit != nil {
+		res := r.Fit.Residuals[i]
+		jg.Fitted, jg.DeparturePercent, jg.Shift = Float(res.Fitted), Float(res.DeparturePercent), Float(res.Shift)
+		jg.OutsideBand, jg.Excluded, jg.ExcludedReason = res.OutsideBand, res.Excluded, res.ExcludedReason
+		jg.LogResidual, jg.Weight = Float(res.LogResidual), Float(res.Weight)
+	} else {
+		jg.ExcludedReason = r.Selection.Reason(g)
+		jg.Excluded = jg.ExcludedReason != ""
+	}
+	if r.Comparison != nil {
+		c := r.Comparison.Residuals[i]
+		jg.Hydraulic, jg.HydDeparture, jg.HydShift, jg.HydOutside = Float(c.Fitted), Float(c.DeparturePercent), Float(c.Shift), c.OutsideBand
+	}
+	f, n := calPoint(r, i)
+	jg.FactorOnN, jg.N = Float(f), Float(n)
+	return jg
+}
+
+// jsonSelectionOf states how the gaugings were chosen.
+func jsonSelectionOf(r *gauged.Report) jsonSelection {
+	s := r.Selection
+	out := jsonSelection{Exclude: []string{}}
+	if !s.From.IsZero() {
+		out.From = s.From.Format(time.RFC3339)
+	}
+	if !s.To.IsZero() {
+		out.To = s.To.Format(time.RFC3339)
+	}
+	for _, t := range s.Exclude {
+		out.Exclude = append(out.Exclude, t.Format(time.RFC3339))
+	}
+	for _, g := range r.Gaugings {
+		if s.Reason(g) != "" {
+			out.Excluded++
+		}
+	}
+	out.Fitted = len(r.Gaugings) - out.Excluded
+	if r.Fit != nil {
+		out.Fitted = r.Fit.N
+	}
+	return out
+}
+
+// jsonExtrapolationOf says what the rows above the gaugings rest on.
+func jsonExtrapolationOf(r *gauged.Report, t *gauged.ControlTable) *jsonExtrapolation {
+	e := &jsonExtrapolation{ScaleFactor: Float(math.NaN()), ScaleStage: Float(r.Fit.HighStage), Note: t.AboveNote,
+		LargestGauged: Float(t.MaxDischarge), MaxMultiple: Float(t.MaxMultiple), WarnMultiple: Float(gauged.ExtrapolationWarnMultiple)}
+	if x := t.Extension; x != nil {
+		e.ConveyanceSlope = &jsonConveyance{len(x.Points), x.Level, Float(x.LogSlope), Float(x.LogSlopeSE), Float(x.Trend), Float(x.TrendSE),
+			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog)}
+	}
+	return e
+}
+
+// methodWords describes a fit's method in a sentence.
+func methodWords(f *gauged.ControlFit) string {
+	if f.Method == gauged.Bayesian {
+		p := f.Posterior
+		return fmt.Sprintf("Bayesian (Le Coz et al., 2014): priors from the survey where given, adaptive Metropolis (Haario et al., 2001), %d chains of %d draws after %d pilot iterations, seed %d; the table is the posterior mode",
+			p.Chains, p.Draws, p.Pilot, p.Seed)
+	}
+	return "weighted least squares in ln Q (ISO 18320; Kennedy, 1984, USGS TWRI 3-A10), standard errors by the delta method"
+}
+
+// WriteFitText writes a gaugings report for reading: the datum, the
+// method and the uncertainty convention, the fitted controls with their
+// uncertainties, the posterior (Bayesian), the tests of the relation and
+// Johnson's check, every gauging's departures (excluded ones marked with
+// their reason), the back-calculated n, the table with both bands and the
+// multiple of the largest gauged discharge, the warnings and the caution.
 func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw := bufio.NewWriter(w)
 	u := r.Units
-	L, Q := u.Length(), u.Discharge()
+	L := u.Length()
 	p := func(format string, a ...any) { fmt.Fprintf(bw, format, a...) }
 	title := "Gaugings"
 	if r.Site != "" {
 		title += " at " + r.Site
 	}
 	p("%s: %d measurements, %s units\n", title, len(r.Gaugings), u)
-	if r.Comparison != nil {
+	switch {
+	case r.Hydraulic != nil:
 		p("Gauge datum: elevation = gauge height + %s %s (--datum); hydraulic rating at slope %g\n", FormatFloat(r.Datum), L, r.Slope)
-	} else {
+	case r.HydraulicTable != nil:
+		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
+	default:
 		p("Gauge datum: stages are gauge heights as read; no section given, so no hydraulic rating\n")
 	}
+	p("Uncertainty convention: %s\n", gauged.UncertaintyConvention())
+	if s := jsonSelectionOf(r); s.Excluded > 0 || s.From != "" || s.To != "" {
+		p("Selection: %d of %d gaugings fitted", s.Fitted, len(r.Gaugings))
+		if s.From != "" || s.To != "" {
+			p("; rating period %s to %s", orOpen(s.From), orOpen(s.To))
+		}
+		p(" (the others are shown with their departures, marked x)\n")
+	}
 	if f := r.Fit; f != nil {
-		p("\nFitted rating, Q = C·(h − e)^b (h gauge height in %s, Q in %s), %d segment(s), %d gaugings, %d parameters:\n",
-			L, Q, len(f.Segments), f.N, f.Params)
-		if f.ZeroFlowFixed {
-			p("  e = %.4f %s (%s)\n", f.ZeroFlow, L, f.ZeroFlowSource)
-		} else {
-			p("  e = %.4f ± %s %s (fitted)\n", f.ZeroFlow, sig(f.ZeroFlowSE, 2), L)
+		writeFitControls(p, r, f)
+		if f.Posterior != nil {
+			writePosterior(p, f.Posterior)
 		}
-		for i, b := range f.Breaks {
-			if f.BreaksFixed {
-				p("  breakpoint %d at %.4f %s (given)\n", i+1, b, L)
-			} else {
-				p("  breakpoint %d at %.4f ± %s %s\n", i+1, b, sig(f.BreaksSE[i], 2), L)
-			}
-		}
-		for i, s := range f.Segments {
-			p("  segment %d, %.3f to %.3f %s: C = %s ± %s, b = %.4f ± %s\n", i+1, s.From, s.To, L,
-				sig(s.Coefficient, 5), sig(s.CoefficientSE, 2), s.Exponent, sig(s.ExponentSE, 2))
-		}
-		p("  standard error of estimate %.2f %% (%.4f in ln Q)\n", f.StandardErrorPercent, f.StandardErrorLog)
-		if !math.IsNaN(f.MoreSegmentsP) {
-			p("  one more segment: F = %.2f, p = %.3g (poor fit below p = %g)\n", f.MoreSegmentsF, f.MoreSegmentsP, gauged.PoorFitLevel)
-		}
+		writeFitChecks(p, r, f)
 	}
-	p("\nGaugings (departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its quality band):\n")
-	p("  %-19s %9s %10s %-9s", "time", "stage", "discharge", "quality")
-	if r.Fit != nil {
-		p(" %10s %8s %8s", "fitted", "dep. %", "shift")
-	}
-	if r.Comparison != nil {
-		p(" %10s %8s %8s %8s %7s", "hydraulic", "dep. %", "shift", "n factor", "n")
-	}
-	p("\n")
-	for i, g := range r.Gaugings {
-		p("  %-19s %9.3f %10s %-9s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality)
-		if r.Fit != nil {
-			res := r.Fit.Residuals[i]
-			p(" %10s %7s%s %8s", sig(res.Fitted, 5), fixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fixed(res.Shift, 3))
-		}
-		if r.Comparison != nil {
-			c := r.Comparison.Residuals[i]
-			f, n := calPoint(r, i)
-			p(" %10s %7s%s %8s %8s %7s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3), fixed(f, 3), fixed(n, 4))
-		}
-		p("\n")
-	}
-	if c := r.Comparison; c != nil {
-		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
-			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
-	}
-	if c := r.Calibration; c != nil {
-		which := "every subsection's n"
-		if c.ChannelOnly {
-			which = "the channel's n"
-		}
-		p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
-			which, c.Factor, fixed(c.StandardErrorPercent, 2))
-		pts := append([]gauged.NPoint(nil), c.Points...)
-		sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
-		p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
-		p("  %9s %9s %8s\n", "stage", "factor", "n")
-		for _, pt := range pts {
-			p("  %9.3f %9s %8s\n", pt.Stage, fixed(pt.Factor, 4), fixed(pt.N, 4))
-		}
-	}
+	writeGaugingRows(p, r)
+	writeCalibration(p, r)
 	if t := r.Table; t != nil {
-		p("\nLookup table (gauge height %s, discharge %s; x = extrapolated: below the lowest gauging on the fit, above the highest on the scaled hydraulic rating):\n", L, Q)
-		if t.ScaleNote != "" {
-			p("  %s\n", t.ScaleNote)
-		}
-		p("  %9s %11s %11s %11s  %s\n", "stage", "discharge", "lower 95%", "upper 95%", "basis")
-		for _, row := range t.Rows {
-			mark := " "
-			if row.Extrapolated() {
-				mark = "x"
-			}
-			p("  %9.3f %11s %11s %11s %s %s\n", row.Stage, sig(row.Discharge, 5), sig(row.Lower, 5), sig(row.Upper, 5), mark, row.Basis)
-		}
+		writeTableRows(p, r, t)
 	}
 	if len(r.Warnings) > 0 {
 		p("\n")
@@ -309,6 +539,204 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	}
 	p("\ncaution: %s\n", rating.Caution)
 	return bw.Flush()
+}
+
+// orOpen writes an open end of a period.
+func orOpen(s string) string {
+	if s == "" {
+		return "open"
+	}
+	return s
+}
+
+// printer is a formatted writer.
+type printer func(format string, a ...any)
+
+// writeFitControls writes the fitted controls.
+func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
+	L, Q := r.Units.Length(), r.Units.Discharge()
+	p("\nFitted rating: %d control(s), each Q = A·(h − B)^C with its own offset B (h gauge height in %s, Q in %s), %d gaugings, %d parameters\n",
+		len(f.Controls), L, Q, f.N, f.Params)
+	p("  method: %s\n", methodWords(f))
+	what := "±: standard errors"
+	if f.Method == gauged.Bayesian {
+		what = "±: posterior standard deviations; values at the posterior mode"
+	}
+	p("  (%s)\n", what)
+	for j, c := range f.Controls {
+		lo, hi := exponentBounds(f, j)
+		join := ""
+		switch {
+		case j > 0 && c.Joint == gauged.Add:
+			join = ", adds to the one below"
+		case j > 0:
+			join = ", replaces the one below"
+		}
+		b := fmt.Sprintf("%.4f ± %s %s", c.B, sig(c.BSE, 2), L)
+		if math.IsNaN(c.BSE) {
+			b = fmt.Sprintf("%.4f %s (held)", c.B, L)
+		}
+		p("  control %d (%s%s), %.3f to %.3f %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %.3g to %.3g expected)\n",
+			j+1, c.Kind, join, c.From, segmentTo(f, j), L, sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), lo, hi)
+		if j > 0 {
+			p("    breakpoint %.4f ± %s %s%s\n", c.From, sig(c.FromSE, 2), L, map[bool]string{true: " (given)", false: ""}[f.BreaksFixed])
+		}
+		if src := priorSource(f, j); src != "" {
+			p("    prior: %s\n", src)
+		}
+	}
+	if r.FloodplainAdded {
+		p("  control %d was added: a floodplain adding to the channel from the bank stage (%.3f %s), since the section's overbanks flow below the table's top\n",
+			len(f.Controls), r.BankStage, L)
+	}
+	if f.OffsetFixed {
+		p("  first offset held at %.4f %s (%s)\n", f.Controls[0].B, L, f.OffsetSource)
+	}
+	p("  standard error of estimate %s %% (%s in ln Q)\n", fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4))
+	if m := r.MoreControls; m.Made {
+		p("  one more control: F = %.2f, p = %.3g (poor fit below p = %g), standard error %.2f %%\n", m.F, m.P, gauged.PoorFitLevel, m.StandardErrorPercent)
+	}
+	if r.Prior != nil {
+		p("  prior rating (means of the priors, before the gaugings):")
+		for j, c := range r.Prior.Controls {
+			p(" control %d Q = %s·(h − %.4f)^%.3f from %.3f %s;", j+1, sig(c.A, 4), c.B, c.C, c.From, L)
+		}
+		p("\n")
+	}
+}
+
+// writePosterior writes the posterior summaries.
+func writePosterior(p printer, post *gauged.Posterior) {
+	p("\nPosterior (%d chains of %d draws, pilot %d, seed %d): acceptance %.2f, R̂ max %.3f (%s; chains agree at ≤ %g), least effective sample size %.0f (%s)\n",
+		post.Chains, post.Draws, post.Pilot, post.Seed, post.Acceptance, post.RHatMax, post.RHatParam, gauged.RHatLimit, post.ESSMin, post.ESSParam)
+	p("  likelihood: %s\n", post.Likelihood)
+	p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", "parameter", "mean", "sd", "2.5 %", "median", "97.5 %", "prior mean", "prior sd", "R̂", "ESS")
+	for _, s := range post.Parameters {
+		p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", s.Name, sig(s.Mean, 5), sig(s.SD, 3), sig(s.P2_5, 5), sig(s.P50, 5), sig(s.P97_5, 5),
+			sig(s.PriorMean, 5), sig(s.PriorSD, 3), fixed(s.RHat, 3), fixed(s.ESS, 0))
+	}
+}
+
+// writeFitChecks writes the ISO tests and Johnson's check.
+func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
+	L := r.Units.Length()
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; failed below p = %g):\n", gauged.RelationTestLevel)
+	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+		verdict := "passes"
+		if t.Failed {
+			verdict = "FAILS"
+		}
+		if math.IsNaN(t.P) {
+			verdict = "not made"
+		}
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
+	}
+	if j := f.Johnson; j.OK {
+		p("Johnson's three-point check of the first offset: e = %.4f %s (gauge heights %.3f, %.3f, %.3f %s of %s, %s, %s %s); fitted B = %.4f %s\n",
+			j.ZeroFlow, L, j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
+	} else {
+		p("Johnson's three-point check of the first offset: not made (%s)\n", j.Note)
+	}
+}
+
+// writeGaugingRows writes every gauging with its departures.
+func writeGaugingRows(p printer, r *gauged.Report) {
+	p("\nGaugings (U: uncertainty at 95 %%; departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its quality band; x left out of the fit):\n")
+	p("  %-19s %9s %10s %-9s %5s", "time", "stage", "discharge", "quality", "U %")
+	if r.Fit != nil {
+		p(" %10s %8s %8s", "fitted", "dep. %", "shift")
+	}
+	if r.Comparison != nil {
+		p(" %10s %8s %8s", "hydraulic", "dep. %", "shift")
+	}
+	if r.Calibration != nil {
+		p(" %8s %7s", "n factor", "n")
+	}
+	p("\n")
+	var reasons []string
+	for i, g := range r.Gaugings {
+		p("  %-19s %9.3f %10s %-9s %5s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
+		reason := ""
+		if r.Fit != nil {
+			res := r.Fit.Residuals[i]
+			p(" %10s %7s%s %8s", sig(res.Fitted, 5), fixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fixed(res.Shift, 3))
+			reason = res.ExcludedReason
+		} else {
+			reason = r.Selection.Reason(g)
+		}
+		if r.Comparison != nil {
+			c := r.Comparison.Residuals[i]
+			p(" %10s %7s%s %8s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3))
+		}
+		if r.Calibration != nil {
+			f, n := calPoint(r, i)
+			p(" %8s %7s", fixed(f, 3), fixed(n, 4))
+		}
+		if reason != "" {
+			p(" x")
+			reasons = append(reasons, fmt.Sprintf("%s: %s", g.Time.Format(GaugingTimeLayout), reason))
+		}
+		p("\n")
+	}
+	for _, s := range reasons {
+		p("  x %s\n", s)
+	}
+	if c := r.Comparison; c != nil {
+		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
+			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
+	}
+}
+
+// writeCalibration writes the back-calculated n.
+func writeCalibration(p printer, r *gauged.Report) {
+	c := r.Calibration
+	if c == nil {
+		return
+	}
+	which := "every subsection's n"
+	if c.ChannelOnly {
+		which = "the channel's n"
+	}
+	p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
+		which, c.Factor, fixed(c.StandardErrorPercent, 2))
+	pts := append([]gauged.NPoint(nil), c.Points...)
+	sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
+	p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
+	p("  %9s %9s %8s\n", "stage", "factor", "n")
+	for _, pt := range pts {
+		p("  %9.3f %9s %8s\n", pt.Stage, fixed(pt.Factor, 4), fixed(pt.N, 4))
+	}
+}
+
+// writeTableRows writes the table with both bands.
+func writeTableRows(p printer, r *gauged.Report, t *gauged.ControlTable) {
+	L, Q := r.Units.Length(), r.Units.Discharge()
+	p("\nRating table (gauge height %s, discharge %s; x = extrapolated, outside the gaugings; × = discharge over the largest gauged, %s %s):\n",
+		L, Q, sig(t.MaxDischarge, 5), Q)
+	p("  bands: %s\n", t.BandNote)
+	if t.AboveNote != "" {
+		p("  %s\n", t.AboveNote)
+	}
+	if t.BandsWithheld {
+		p("  bands withheld: the chains disagree (see the warnings)\n")
+	}
+	p("  %9s %11s %11s %11s %11s %11s %6s  %s\n", "stage", "discharge", "param. 2.5%", "param. 97.5%", "total 2.5%", "total 97.5%", "×", "basis")
+	for _, row := range t.Rows {
+		mark := " "
+		if row.Extrapolated() {
+			mark = "x"
+		}
+		p("  %9.3f %11s %11s %11s %11s %11s %6s %s %s\n", row.Stage, sig(row.Discharge, 5), sig(row.ParametricLower, 5), sig(row.ParametricUpper, 5),
+			sig(row.TotalLower, 5), sig(row.TotalUpper, 5), fixedOrBlank(row.Multiple, 2), mark, row.Basis)
+	}
+}
+
+// fixedOrBlank formats v with n decimals, blank when undefined.
+func fixedOrBlank(v float64, n int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	return fmt.Sprintf("%.*f", n, v)
 }
 
 func fitStar(b bool) string {

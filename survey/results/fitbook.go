@@ -18,9 +18,11 @@ import (
 const (
 	// SheetGaugings is the field workbook's gaugings sheet name, so that
 	// a fit workbook's gaugings read back as gaugings.
-	SheetGaugings = survey.FieldSheetGaugings
-	SheetFitTable = "fitted rating"
-	SheetNByStage = "n by stage"
+	SheetGaugings  = survey.FieldSheetGaugings
+	SheetFitTable  = "fitted rating"
+	SheetBands     = "bands"
+	SheetPosterior = "posterior"
+	SheetNByStage  = "n by stage"
 )
 
 // fitLookupCells turns a report's lookup rows into cells of a lookup
@@ -37,17 +39,24 @@ func fitLookupCells(r *gauged.Report) []LookupCell {
 // Sheets:
 //
 //   - summary: site, sources, program version, units, gauge datum, slope,
-//     gauging counts, the fitted segments with their parameters and
-//     standard errors, the standard error of estimate, the calibration
-//     factor on n, where the extrapolation's scale factor came from, the
-//     warnings and the caution;
+//     the method and the uncertainty convention, gauging counts, each
+//     control with its parameters and uncertainties, the standard error of
+//     estimate, the F test of one more control, the ISO tests with their
+//     p-values, Johnson's check, the calibration factor on n, what the
+//     rows above the gaugings rest on, the warnings and the caution;
 //   - gaugings: every measurement (time, stage, discharge, quality, note,
-//     the columns of a field workbook's gaugings sheet) with its departure
-//     from the hydraulic rating and from the fit, its stage shift, its
-//     band flag, fitted discharge and residual, and its back-calculated n;
-//   - fitted rating: the fit's lookup table (FitTableColumns()), the
-//     extrapolated rows in the marked style (Book.MarkStyle) and flagged
-//     "yes" in the extrapolated column;
+//     uncertainty and exclude: the columns of a field workbook's gaugings
+//     sheet, so it reads back as gaugings) with its uncertainty as used,
+//     its departure from the hydraulic rating and from the fit, its stage
+//     shift, band flag, fitted discharge, residual and weight, why it was
+//     left out of the fit, and its back-calculated n;
+//   - fitted rating: the table (FitTableColumns()), the extrapolated rows
+//     in the marked style (Book.MarkStyle) and flagged "yes";
+//   - bands: at each stage of the table the discharge, both 95 % bands
+//     and their half-widths in percent, and the multiple of the largest
+//     gauged discharge, extrapolated rows marked;
+//   - posterior: a Bayesian fit's parameters (mean, sd, quantiles, prior,
+//     R̂, effective sample size) and the sampling's diagnostics;
 //   - lookup: the report's Lookup in the printed layout (WriteLookupCells),
 //     extrapolated cells marked;
 //   - n by stage: the back-calculated n of each gauging, by stage, when
@@ -66,6 +75,14 @@ func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 	}
 	if r.Table != nil {
 		if err := writeFitTableSheet(b, r.Units, r.Table); err != nil {
+			return err
+		}
+		if err := writeBandsSheet(b, r.Units, r.Table); err != nil {
+			return err
+		}
+	}
+	if r.Fit != nil && r.Fit.Posterior != nil {
+		if err := writePosteriorSheet(b, r.Fit.Posterior); err != nil {
 			return err
 		}
 	}
@@ -109,46 +126,19 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
 	add("program", programName(r.Provenance), "")
 	add("units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), "")
-	if r.Comparison != nil {
+	switch {
+	case r.Hydraulic != nil:
 		add("gauge datum", fmt.Sprintf("elevation = gauge height + %s", FormatFloat(r.Datum)), L)
 		add("friction slope of the hydraulic rating", num("0.######", r.Slope), L+"/"+L)
-	} else {
+	case r.HydraulicTable != nil:
+		add("gauge datum", "stages are gauge heights; hydraulic rating from the "+r.HydraulicSource, "")
+	default:
 		add("gauge datum", "stages are gauge heights as read; no section given, so no hydraulic rating", "")
 	}
+	add("uncertainty convention", gauged.UncertaintyConvention(), "")
 	add("gaugings", len(r.Gaugings), "")
 	if f := r.Fit; f != nil {
-		add("method", "power law Q = C·(h − e)^b by segment, continuous at the breakpoints, weighted least squares in ln Q (ISO 18320; Kennedy, 1984, USGS TWRI 3-A10)", "")
-		add("gaugings fitted", f.N, "")
-		add("parameters fitted", f.Params, "")
-		add("lowest gauging fitted", num("0.000", f.LowStage), L)
-		add("highest gauging fitted", num("0.000", f.HighStage), L)
-		add("gauge height of zero flow e", num("0.0000", f.ZeroFlow), L)
-		if f.ZeroFlowFixed {
-			add("e from", f.ZeroFlowSource, "")
-		} else {
-			add("standard error of e", num("0.0000", f.ZeroFlowSE), L)
-		}
-		for i, bk := range f.Breaks {
-			add(fmt.Sprintf("breakpoint %d", i+1), num("0.0000", bk), L)
-			if f.BreaksFixed {
-				add(fmt.Sprintf("breakpoint %d from", i+1), "given", "")
-			} else {
-				add(fmt.Sprintf("standard error of breakpoint %d", i+1), num("0.0000", f.BreaksSE[i]), L)
-			}
-		}
-		for i, s := range f.Segments {
-			p := fmt.Sprintf("segment %d: ", i+1)
-			add(p+"stages", fmt.Sprintf("%.3f to %.3f", s.From, s.To), L)
-			add(p+"coefficient C", num("0.00000", s.Coefficient), "")
-			add(p+"standard error of C", num("0.00000", s.CoefficientSE), "")
-			add(p+"exponent b", num("0.0000", s.Exponent), "")
-			add(p+"standard error of b", num("0.0000", s.ExponentSE), "")
-		}
-		add("standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
-		add("standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
-		if !math.IsNaN(f.MoreSegmentsP) {
-			add("one more segment", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", f.MoreSegmentsF, f.MoreSegmentsP, gauged.PoorFitLevel), "")
-		}
+		fitSummaryItems(add, num, r, f)
 	} else {
 		add("method", "comparison with the hydraulic rating only: no fit", "")
 	}
@@ -165,9 +155,13 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 		add("standard error of the calibrated rating", num("0.00", c.StandardErrorPercent), "%")
 	}
 	if t := r.Table; t != nil {
-		add("extrapolation scale factor", num("0.0000", t.ScaleFactor), "")
-		add("extrapolation", t.ScaleNote, "")
-		add("fitted rating sheet", "rows outside the gaugings are extrapolated: marked yes and shaded; below the lowest gauging the fit down to e, above the highest the scaled hydraulic rating", "")
+		add("bands", t.BandNote, "")
+		if t.AboveNote != "" {
+			add("extrapolation", t.AboveNote, "")
+		}
+		add("largest gauged discharge", num(workbook.FormatSig3, t.MaxDischarge), Q)
+		add("largest multiple of the largest gauged discharge in the table", num("0.00", t.MaxMultiple), "")
+		add("fitted rating sheet", "rows outside the gaugings are extrapolated: marked yes and shaded; the basis column says what each row rests on", "")
 	}
 	if len(r.Lookup) > 0 {
 		add("lookup sheet", "discharge at every hundredth of stage by the fitted rating sheet's rule (not interpolated); extrapolated cells shaded", "")
@@ -176,6 +170,53 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 		return err
 	}
 	return WriteSummarySheet(b, SheetSummary, items, r.Warnings)
+}
+
+// fitSummaryItems adds the fit's items to the summary.
+func fitSummaryItems(add func(string, any, string), num func(string, float64) any, r *gauged.Report, f *gauged.ControlFit) {
+	L := r.Units.Length()
+	add("method", f.Method.String()+": "+methodWords(f), "")
+	add("gaugings fitted", f.N, "")
+	add("parameters fitted", f.Params, "")
+	add("lowest gauging fitted", num("0.000", f.LowStage), L)
+	add("highest gauging fitted", num("0.000", f.HighStage), L)
+	add("first offset from", f.OffsetSource, "")
+	for j, c := range f.Controls {
+		p := fmt.Sprintf("control %d: ", j+1)
+		lo, hi := exponentBounds(f, j)
+		add(p+"kind and joint", fmt.Sprintf("%s, %s (exponents %.3g to %.3g expected)", c.Kind, c.Joint, lo, hi), "")
+		add(p+"stages", fmt.Sprintf("%.3f to %.3f", c.From, segmentTo(f, j)), L)
+		add(p+"coefficient A", num("0.00000", c.A), "")
+		add(p+"uncertainty of A", num("0.00000", c.ASE), "")
+		add(p+"offset B", num("0.0000", c.B), L)
+		add(p+"uncertainty of B", num("0.0000", c.BSE), L)
+		add(p+"exponent C", num("0.0000", c.C), "")
+		add(p+"uncertainty of C", num("0.0000", c.CSE), "")
+		if src := priorSource(f, j); src != "" {
+			add(p+"prior", src, "")
+		}
+	}
+	add("standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
+	add("standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
+	if m := r.MoreControls; m.Made {
+		add("one more control", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", m.F, m.P, gauged.PoorFitLevel), "")
+	}
+	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+		add("ISO 1100-2 "+t.Name+" test", fmt.Sprintf("n %d, statistic %s, p = %s, failed %v", t.N, sig(t.Statistic, 4), sig(t.P, 3), t.Failed), "")
+	}
+	if p := f.Posterior; p != nil {
+		add("largest R̂ ("+p.RHatParam+")", num("0.000", p.RHatMax), "")
+		add("R̂ limit (the chains agree at or below it)", num("0.00", gauged.RHatLimit), "")
+		add("least effective sample size ("+p.ESSParam+")", num("0", p.ESSMin), "")
+		add("acceptance rate", num("0.000", p.Acceptance), "")
+		add("sampling", fmt.Sprintf("%d chains of %d draws after %d pilot iterations, seed %d, %d local mode(s)", p.Chains, p.Draws, p.Pilot, p.Seed, p.Modes), "")
+		add("likelihood", p.Likelihood, "")
+	}
+	if j := f.Johnson; j.OK {
+		add("Johnson's three-point zero-flow stage", num("0.0000", j.ZeroFlow), L)
+	} else {
+		add("Johnson's three-point zero-flow stage", "not made: "+j.Note, "")
+	}
 }
 
 // writeGaugingsSheet writes one row per gauging, in input order.
@@ -188,6 +229,9 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "quality", Width: 10},
 		{Name: "note", Width: 24},
+		{Name: survey.ColGaugingUncertainty, Unit: "%", Format: "0.0"},
+		{Name: survey.ColGaugingExclude, Width: 20},
+		{Name: "uncertainty_used", Unit: "%", Format: "0.0"},
 	}
 	if r.Comparison != nil {
 		cols = append(cols,
@@ -204,7 +248,8 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 			workbook.Column{Name: "shift", Unit: L, Format: "0.000"},
 			workbook.Column{Name: "outside_band", Width: 12},
 			workbook.Column{Name: "weight", Format: "0.000"},
-			workbook.Column{Name: "excluded", Width: 10})
+			workbook.Column{Name: "excluded", Width: 10},
+			workbook.Column{Name: "excluded_reason", Width: 28})
 	}
 	if r.Calibration != nil {
 		cols = append(cols, workbook.Column{Name: "factor_on_n", Format: "0.000"}, workbook.Column{Name: "n", Format: "0.0000"})
@@ -216,14 +261,18 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 	}
 	vals := make([]any, 0, len(cols))
 	for i, g := range r.Gaugings {
-		vals = append(vals[:0], g.Time, g.Stage, g.Discharge, g.Quality.String(), g.Note)
+		unc := math.NaN()
+		if g.Uncertainty > 0 {
+			unc = g.Uncertainty
+		}
+		vals = append(vals[:0], g.Time, g.Stage, g.Discharge, g.Quality.String(), g.Note, unc, g.Exclude, g.UncertaintyPercent())
 		if c := r.Comparison; c != nil {
 			res := c.Residuals[i]
 			vals = append(vals, res.Fitted, res.DeparturePercent, res.Shift, yes(res.OutsideBand))
 		}
 		if f := r.Fit; f != nil {
 			res := f.Residuals[i]
-			vals = append(vals, res.Fitted, res.DeparturePercent, res.LogResidual, res.Shift, yes(res.OutsideBand), res.Weight, yes(res.Excluded))
+			vals = append(vals, res.Fitted, res.DeparturePercent, res.LogResidual, res.Shift, yes(res.OutsideBand), res.Weight, yes(res.Excluded), res.ExcludedReason)
 		}
 		if r.Calibration != nil {
 			f, n := calPoint(r, i)
@@ -237,8 +286,8 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 	return s.Flush()
 }
 
-// writeFitTableSheet writes the fit's lookup table, extrapolated rows marked.
-func writeFitTableSheet(b *workbook.Book, u rating.Units, t *gauged.FitTable) error {
+// writeFitTableSheet writes the fit's table, extrapolated rows marked.
+func writeFitTableSheet(b *workbook.Book, u rating.Units, t *gauged.ControlTable) error {
 	L, Q := u.Length(), u.Discharge()
 	cols := []workbook.Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
@@ -248,14 +297,55 @@ func writeFitTableSheet(b *workbook.Book, u rating.Units, t *gauged.FitTable) er
 		{Name: "lower_95", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "upper_95", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "hydraulic", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "parametric_lower_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "parametric_upper_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "total_lower_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "total_upper_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "gauged_multiple", Format: "0.00"},
 	}
-	s, err := b.Table(SheetFitTable, cols)
+	return writeMarkedRows(b, SheetFitTable, cols, t.Rows, func(row gauged.ControlRow) []any {
+		return []any{row.Stage, row.Discharge, yes(row.Extrapolated()), row.Basis.String(), row.ParametricLower, row.ParametricUpper, row.Hydraulic,
+			row.ParametricLower, row.ParametricUpper, row.TotalLower, row.TotalUpper, row.Multiple}
+	})
+}
+
+// writeBandsSheet writes both bands of the table with their half-widths
+// in percent of the discharge.
+func writeBandsSheet(b *workbook.Book, u rating.Units, t *gauged.ControlTable) error {
+	L, Q := u.Length(), u.Discharge()
+	cols := []workbook.Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "parametric_lower_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "parametric_upper_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "parametric_half_width", Unit: "%", Format: "0.0"},
+		{Name: "total_lower_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "total_upper_95", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "total_half_width", Unit: "%", Format: "0.0"},
+		{Name: "gauged_multiple", Format: "0.00"},
+		{Name: "basis", Width: 20},
+	}
+	half := func(lo, hi, q float64) float64 {
+		if !(q > 0) {
+			return math.NaN()
+		}
+		return 50 * (hi - lo) / q
+	}
+	return writeMarkedRows(b, SheetBands, cols, t.Rows, func(row gauged.ControlRow) []any {
+		return []any{row.Stage, row.Discharge, row.ParametricLower, row.ParametricUpper, half(row.ParametricLower, row.ParametricUpper, row.Discharge),
+			row.TotalLower, row.TotalUpper, half(row.TotalLower, row.TotalUpper, row.Discharge), row.Multiple, row.Basis.String()}
+	})
+}
+
+// writeMarkedRows writes one row per table row, extrapolated rows in the
+// marked style.
+func writeMarkedRows(b *workbook.Book, name string, cols []workbook.Column, rows []gauged.ControlRow, values func(gauged.ControlRow) []any) error {
+	s, err := b.Table(name, cols)
 	if err != nil {
 		return err
 	}
-	vals := make([]any, len(cols))
-	for _, row := range t.Rows {
-		vals = append(vals[:0], row.Stage, row.Discharge, yes(row.Extrapolated()), row.Basis.String(), row.Lower, row.Upper, row.Hydraulic)
+	for _, row := range rows {
+		vals := values(row)
 		if row.Extrapolated() {
 			for i, v := range vals {
 				if vals[i], err = b.Marked(cols[i].Format, v); err != nil {
@@ -264,6 +354,34 @@ func writeFitTableSheet(b *workbook.Book, u rating.Units, t *gauged.FitTable) er
 			}
 		}
 		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	return s.Flush()
+}
+
+// PosteriorColumns returns the columns of the posterior sheet of a fit
+// workbook.
+func PosteriorColumns() []string {
+	return []string{"name", "mean", "sd", "p2_5", "p50", "p97_5", "prior_mean", "prior_sd", "rhat", "ess", "derived"}
+}
+
+// writePosteriorSheet writes a Bayesian fit's parameters (the diagnostics
+// of the sampling are in the summary).
+func writePosteriorSheet(b *workbook.Book, p *gauged.Posterior) error {
+	names := PosteriorColumns()
+	cols := make([]workbook.Column, len(names))
+	for i, n := range names {
+		cols[i] = workbook.Column{Name: n, Format: workbook.FormatSig3}
+	}
+	cols[0].Width, cols[len(cols)-1].Width = 36, 10
+	cols[0].Format, cols[len(cols)-1].Format = workbook.FormatText, workbook.FormatText
+	s, err := b.Table(SheetPosterior, cols)
+	if err != nil {
+		return err
+	}
+	for _, q := range p.Parameters {
+		if err := s.Row(q.Name, q.Mean, q.SD, q.P2_5, q.P50, q.P97_5, q.PriorMean, q.PriorSD, q.RHat, q.ESS, yes(q.Derived)); err != nil {
 			return err
 		}
 	}

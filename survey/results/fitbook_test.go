@@ -123,7 +123,7 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 		t.Fatal(err)
 	}
 	f := openWritten(t, &buf)
-	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetLookup}
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetBands, results.SheetLookup}
 	if got := f.GetSheetList(); !slices.Equal(got, want) {
 		t.Fatalf("sheets %q, want %q", got, want)
 	}

@@ -66,8 +66,11 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	}
 	fmt.Fprintln(bw)
 	if f := r.Fit; f != nil {
-		fmt.Fprintf(bw, "  %d segment(s), e = %.3f %s (%s), standard error %.1f %%\n",
-			len(f.Segments), f.ZeroFlow, r.Units.Length(), f.ZeroFlowSource, f.StandardErrorPercent)
+		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), standard error %s %%\n",
+			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, fixed(f.StandardErrorPercent, 1))
+	}
+	if r.Fit != nil {
+		fmt.Fprintf(bw, "  uncertainty convention: %s\n", gauged.UncertaintyConvention())
 	}
 	if c := r.Comparison; c != nil {
 		fmt.Fprintf(bw, "  against the hydraulic rating: %d of %d outside their quality bands\n", c.Outside, len(c.Residuals))
@@ -75,8 +78,14 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	if c := r.Calibration; c != nil {
 		fmt.Fprintf(bw, "  best factor on n: %.3f\n", c.Factor)
 	}
-	if t := r.Table; t != nil && t.ScaleNote != "" {
-		fmt.Fprintf(bw, "  %s\n", t.ScaleNote)
+	if t := r.Table; t != nil && len(t.Rows) > 0 {
+		top := t.Rows[len(t.Rows)-1]
+		fmt.Fprintf(bw, "  table to %.3f %s: %s %s, total 95 %% band %s to %s",
+			top.Stage, r.Units.Length(), sig(top.Discharge, 4), r.Units.Discharge(), sig(top.TotalLower, 4), sig(top.TotalUpper, 4))
+		if !math.IsNaN(top.Multiple) {
+			fmt.Fprintf(bw, " (%.1f times the largest gauged discharge)", top.Multiple)
+		}
+		fmt.Fprintln(bw)
 	}
 	return endSummary(bw, r.Warnings)
 }

@@ -1,0 +1,204 @@
+package gauged
+
+import (
+	"fmt"
+	"math"
+
+	"wetline/rating"
+)
+
+// reference is the hydraulic rating a fit is compared with, extended on
+// and given its prior by: a surveyed section's (sec) or a stage–discharge
+// table's (tab), both at gauge heights. The zero value is none.
+type reference struct {
+	sec *rating.HydraulicCurve
+	tab *TableRating
+}
+
+// referenceOf returns the reference of a section or, without one, of a
+// table.
+func referenceOf(sec *rating.HydraulicCurve, tab *TableRating) reference {
+	if sec != nil {
+		return reference{sec: sec}
+	}
+	return reference{tab: tab}
+}
+
+// ok reports a reference that is given.
+func (r reference) ok() bool { return r.sec != nil || r.tab != nil }
+
+// at returns the reference's discharge and conveyance at gauge height h.
+// A table has no conveyance: its discharge stands in for K·√S₀ (see
+// FitConveyanceSlopeTable). Below a table whose first row is dry the
+// discharge is zero; elsewhere outside a table it is an ErrBeyondTable
+// error.
+func (r reference) at(h float64) (q, k float64, err error) {
+	if r.sec != nil {
+		row, err := r.sec.Row(h)
+		return row.Discharge, row.Conveyance, err
+	}
+	q, err = tableDischarge(r.tab, h)
+	return q, q, err
+}
+
+// discharge returns the reference's discharge at gauge height h.
+func (r reference) discharge(h float64) (float64, error) {
+	q, _, err := r.at(h)
+	return q, err
+}
+
+// bottom is the gauge height where the reference starts to flow: the
+// section's lowest point, or the table's zero-flow stage (TableBottom).
+func (r reference) bottom() float64 {
+	if r.sec != nil {
+		return r.sec.Bottom()
+	}
+	return TableBottom(r.tab)
+}
+
+// top is the highest gauge height of the reference: the section's lower
+// end, or the table's last row.
+func (r reference) top() float64 {
+	if r.sec != nil {
+		return r.sec.Top()
+	}
+	_, hi := r.tab.Range()
+	return hi
+}
+
+// TableBottom returns the gauge height at which a hydraulic rating table
+// starts to flow: its zero-flow stage when it has one, else the stage of
+// the last of its leading rows without discharge (a table computed from a
+// section starts at the section's lowest point), else its first stage.
+func TableBottom(t *TableRating) float64 {
+	tab := t.table
+	if tab.HasZeroFlow {
+		return tab.ZeroFlow
+	}
+	b := t.h[0]
+	for i := range t.q {
+		if t.q[i] > 0 {
+			break
+		}
+		b = t.h[i]
+	}
+	return b
+}
+
+// tableDischarge is the table's discharge at h: zero at or below its
+// bottom when its first row is dry, an ErrBeyondTable error elsewhere
+// outside its rows.
+func tableDischarge(t *TableRating, h float64) (float64, error) {
+	lo, hi := t.Range()
+	if h < lo && (t.q[0] == 0 || t.table.HasZeroFlow && h <= t.table.ZeroFlow) {
+		return 0, nil
+	}
+	q, how := t.Discharge(h)
+	if how == OutsideTable || math.IsNaN(q) {
+		return math.NaN(), fmt.Errorf("%w: gauge height %g is outside %g to %g of %s", ErrBeyondTable, h, lo, hi, t.Name())
+	}
+	return q, nil
+}
+
+// CompareTable measures every gauging against a hydraulic rating given as
+// a table at gauge heights, as Compare does against a section's: the
+// table's discharge at its gauge height (interpolated as
+// TableRating.Discharge does), the percent departure, the shift and the
+// quality-band flag. A gauging outside the table's rows is not compared
+// (NaN, with a warning naming it).
+func CompareTable(gs []Gauging, t *TableRating) Comparison {
+	cmp := Comparison{Datum: math.NaN(), Residuals: make([]Residual, len(gs))}
+	var sum float64
+	n := 0
+	for i, g := range gs {
+		q, err := tableDischarge(t, g.Stage)
+		if err != nil {
+			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: not compared with the hydraulic rating: %v", g.label(), err))
+			cmp.Residuals[i] = Residual{Gauging: g, Fitted: math.NaN(), DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
+			continue
+		}
+		r := residualOf(g, q, func(q float64) float64 {
+			h, err := t.Stage(q)
+			if err != nil {
+				return math.NaN()
+			}
+			return h
+		})
+		if r.OutsideBand {
+			cmp.Outside++
+		}
+		if !math.IsNaN(r.LogResidual) {
+			sum += r.LogResidual
+			n++
+		}
+		cmp.Residuals[i] = r
+	}
+	cmp.MeanLogDeparturePercent = math.NaN()
+	if n > 0 {
+		cmp.MeanLogDeparturePercent = 100 * (math.Exp(sum/float64(n)) - 1)
+	}
+	return cmp
+}
+
+// TablePrior returns the prior of a channel control from a hydraulic
+// rating given as a table (a step-backwater or a section's rating read
+// from a file) over gauge heights from..to, exactly as HydraulicPrior does
+// from a section's: the power law Q = a₀·(h − b)^c fitted in ln Q to the
+// table's discharge at priorCurvePoints stages, and
+//
+//	ln a = ln a₀ + ½·ln(S/S₀) − ln f,   sd(ln a) = √(¼·σ²_lnS + σ²_lnf),
+//
+// which assumes the table's discharges scale as 1/n and √S, as those of a
+// Manning computation do. Only the whole discharge is known, so
+// opt.Part must be WholeSection. Errors wrap ErrPrior.
+//
+// References:
+//
+//	Le Coz, J., Renard, B., Bonnifait, L., Branger, F., Le Boursicaud, R.
+//	(2014). Combining hydraulic knowledge and uncertain gaugings in the
+//	estimation of hydrometric rating curves: a Bayesian approach.
+//	Journal of Hydrology 509, 573–587.
+func TablePrior(t *TableRating, from, to float64, opt HydraulicPriorOptions) (ControlPrior, error) {
+	if opt.Part != WholeSection {
+		return ControlPrior{}, fmt.Errorf("%w: a table gives the whole discharge only, not the channel's or the overbanks' share", ErrPrior)
+	}
+	q := func(h float64) (float64, error) { return tableDischarge(t, h) }
+	return curvePrior(q, TableBottom(t), from, to, opt, "hydraulic rating table "+t.Name())
+}
+
+// curvePrior fits the prior of a channel control to the discharge q of a
+// hydraulic rating whose flow starts at bottom, over gauge heights
+// from..to (see HydraulicPrior); what names the rating in the source.
+func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt HydraulicPriorOptions, what string) (ControlPrior, error) {
+	ncv, scv := opt.NCV, opt.SlopeCV
+	if ncv == 0 {
+		ncv = DefaultNCV
+	}
+	if scv == 0 {
+		scv = DefaultSlopeCV
+	}
+	if !(ncv >= 0) || !(scv >= 0) || !(to > from) {
+		return ControlPrior{}, fmt.Errorf("%w: range %g to %g, n cv %g, slope cv %g", ErrPrior, from, to, ncv, scv)
+	}
+	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset)
+	if err != nil {
+		return ControlPrior{}, err
+	}
+	sdA := math.Sqrt(0.25*math.Pow(logSD(scv), 2) + math.Pow(logSD(ncv), 2))
+	return ControlPrior{
+		LogCoefficient: ParamPrior{Mean: lnA, SD: sdA},
+		Exponent:       ParamPrior{Mean: cc, SD: HydraulicExponentSD},
+		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - bottom)},
+		Source: fmt.Sprintf("%s from %.4g to %.4g (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
+			what, from, to, math.Exp(lnA), depthAbove(b), cc, ncv, scv),
+	}, nil
+}
+
+// depthAbove writes (h − b) for an offset b, (h + |b|) when it is
+// negative.
+func depthAbove(b float64) string {
+	if b < 0 {
+		return fmt.Sprintf("(h + %.4g)", -b)
+	}
+	return fmt.Sprintf("(h − %.4g)", b)
+}

@@ -1,0 +1,261 @@
+package results_test
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"math"
+	"slices"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/survey/results"
+)
+
+// halfWidthTol is the relative tolerance of a band's half-width read back
+// from a workbook cell written with 15 significant digits.
+const halfWidthTol = 1e-9
+
+// fitReports returns a least-squares and a Bayesian report on gaugings of
+// Q = 8·(h − 0.3)^2 (invented) with seeded noise, one gauging excluded by
+// its own text and the table carried to twice the highest gauging's stage.
+func fitReports(t *testing.T) (lsq, bayes *gauged.Report) {
+	t.Helper()
+	law := func(h float64) float64 { return 8 * math.Pow(h-0.3, 2) }
+	t0 := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
+	var gs []gauged.Gauging
+	for i := range 14 {
+		h := 0.5 + 0.1*float64(i)
+		g := gauged.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: law(h) * (1 + 0.02*math.Sin(float64(7*i))), Quality: rating.Good}
+		gs = append(gs, g)
+	}
+	gs[3].Exclude, gs[3].Discharge = "weed on the control", 2*gs[3].Discharge
+	gs[5].Uncertainty = 3.5
+	var err error
+	opt := gauged.Options{Site: "test", Units: rating.SI, Table: gauged.ControlTableOptions{To: 3.6, Step: 0.1}, Lookup: true}
+	if lsq, err = gauged.Analyze(gs, opt); err != nil {
+		t.Fatal(err)
+	}
+	opt.Method, opt.Bayes = gauged.Bayesian, gauged.BayesOptions{Chains: 2, Draws: 1000, Seed: 1}
+	if bayes, err = gauged.Analyze(gs, opt); err != nil {
+		t.Fatal(err)
+	}
+	return lsq, bayes
+}
+
+// The table's CSV keeps the seven columns of earlier versions first, in
+// order, with lower_95 and upper_95 the parametric band, then the new
+// ones; gauged_multiple is the discharge over the largest one fitted on
+// rows above the gaugings and blank on the others.
+func TestWriteFitCSVColumns(t *testing.T) {
+	lsq, _ := fitReports(t)
+	legacy := []string{"stage", "discharge", "extrapolated", "basis", "lower_95", "upper_95", "hydraulic"}
+	cols := results.FitTableColumns()
+	if !slices.Equal(cols[:len(legacy)], legacy) {
+		t.Fatalf("columns %q do not start with %q", cols, legacy)
+	}
+	var buf bytes.Buffer
+	if err := results.WriteFitCSV(&buf, lsq); err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(recs[0], cols) || len(recs)-1 != len(lsq.Table.Rows) {
+		t.Fatalf("header %q, %d rows", recs[0], len(recs)-1)
+	}
+	at := func(rec []string, name string) string { return rec[slices.Index(cols, name)] }
+	above := 0
+	for i, rec := range recs[1:] {
+		row := lsq.Table.Rows[i]
+		if at(rec, "lower_95") != at(rec, "parametric_lower_95") || at(rec, "upper_95") != at(rec, "parametric_upper_95") {
+			t.Errorf("row %d: lower/upper_95 are not the parametric band: %q", i+1, rec)
+		}
+		m := at(rec, "gauged_multiple")
+		if row.Stage <= lsq.Fit.HighStage {
+			if m != "" {
+				t.Errorf("row %d within the gaugings has multiple %q", i+1, m)
+			}
+			continue
+		}
+		above++
+		v, err := strconv.ParseFloat(m, 64)
+		if err != nil || math.Abs(v-row.Discharge/lsq.Fit.MaxDischarge) > 1e-5*v || at(rec, "total_lower_95") == "" {
+			t.Errorf("row %d above the gaugings: %q", i+1, rec)
+		}
+	}
+	if above == 0 {
+		t.Error("no row above the gaugings")
+	}
+}
+
+// The JSON report keeps the keys of earlier versions in their order and
+// adds the new ones; segments, gaugings and table rows carry theirs; the
+// posterior is there for a Bayesian fit (with the keys the report
+// promises) and null for least squares.
+func TestWriteFitJSONKeys(t *testing.T) {
+	lsq, bayes := fitReports(t)
+	legacy := []string{"site", "units", "datum", "slope", "zero_flow", "segments", "breakpoints", "standard_error_percent",
+		"standard_error_log", "gaugings_fitted", "parameters", "poor_fit", "gaugings", "calibration", "extrapolation", "table", "warnings", "caution"}
+	added := []string{"method", "uncertainty_convention", "selection", "band_note", "relation_tests", "johnson", "posterior", "more_controls"}
+	for _, rep := range []*gauged.Report{lsq, bayes} {
+		var buf bytes.Buffer
+		if err := results.WriteFitJSON(&buf, rep); err != nil {
+			t.Fatal(err)
+		}
+		keys := topKeys(t, buf.Bytes())
+		last := -1
+		for _, k := range legacy {
+			i := slices.Index(keys, k)
+			if i <= last {
+				t.Errorf("%s: key %q at %d, after %d (keys %q)", rep.Method, k, i, last, keys)
+			}
+			last = i
+		}
+		for _, k := range added {
+			if !slices.Contains(keys, k) {
+				t.Errorf("%s: no key %q", rep.Method, k)
+			}
+		}
+		var doc map[string]any
+		if err := json.Unmarshal(buf.Bytes(), &doc); err != nil {
+			t.Fatal(err)
+		}
+		need(t, doc["segments"].([]any)[0].(map[string]any), "from_stage", "to_stage", "coefficient", "zero_flow_stage", "exponent", "control", "kind")
+		g := doc["gaugings"].([]any)[3].(map[string]any)
+		need(t, g, "stage", "discharge", "fitted", "departure_percent", "shift", "excluded", "excluded_reason", "uncertainty_percent")
+		if g["excluded"] != true || g["excluded_reason"] != "weed on the control" || g["departure_percent"] == nil {
+			t.Errorf("%s: excluded gauging %v", rep.Method, g)
+		}
+		if u := doc["gaugings"].([]any)[5].(map[string]any)["uncertainty_percent"]; u != 3.5 {
+			t.Errorf("%s: uncertainty %v, want the column's 3.5", rep.Method, u)
+		}
+		row := doc["table"].([]any)[len(doc["table"].([]any))-1].(map[string]any)
+		need(t, row, "stage", "discharge", "extrapolated", "basis", "parametric_lower_95", "parametric_upper_95", "total_lower_95", "total_upper_95", "gauged_multiple")
+		if doc["method"] != rep.Method.String() || !strings.Contains(doc["uncertainty_convention"].(string), "poor 12 %") {
+			t.Errorf("method %v, convention %v", doc["method"], doc["uncertainty_convention"])
+		}
+		need(t, doc["relation_tests"].(map[string]any)["runs"].(map[string]any), "n", "statistic", "p", "failed")
+		post, isBayes := doc["posterior"].(map[string]any)
+		if isBayes != (rep.Method == gauged.Bayesian) {
+			t.Fatalf("%s: posterior %v", rep.Method, doc["posterior"])
+		}
+		if isBayes {
+			need(t, post, "parameters", "rhat_max", "ess_min", "acceptance")
+			need(t, post["parameters"].([]any)[0].(map[string]any), "name", "mean", "sd", "p2_5", "p50", "p97_5", "prior_mean", "prior_sd")
+		}
+	}
+}
+
+// topKeys returns the keys of a JSON object in the order written.
+func topKeys(t *testing.T, data []byte) []string {
+	t.Helper()
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
+		t.Fatalf("not an object: %v %v", tok, err)
+	}
+	var keys []string
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			t.Fatal(err)
+		}
+		keys = append(keys, tok.(string))
+		var skip json.RawMessage
+		if err := dec.Decode(&skip); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return keys
+}
+
+// need fails for every key missing from obj.
+func need(t *testing.T, obj map[string]any, keys ...string) {
+	t.Helper()
+	for _, k := range keys {
+		if _, ok := obj[k]; !ok {
+			t.Errorf("missing key %q in %v", k, obj)
+		}
+	}
+}
+
+// The text report states the uncertainty convention, the method, the
+// tests with their p-values and Johnson's check, marks the excluded
+// gauging with its reason, and gives the Bayesian posterior.
+func TestWriteFitTextStates(t *testing.T) {
+	lsq, bayes := fitReports(t)
+	for _, rep := range []*gauged.Report{lsq, bayes} {
+		var buf bytes.Buffer
+		if err := results.WriteFitText(&buf, rep); err != nil {
+			t.Fatal(err)
+		}
+		out := buf.String()
+		for _, w := range []string{"Uncertainty convention: ", "poor 12 %", "runs ", "p = ", "Johnson's three-point check",
+			"x 2024-04-01T09:00:00: weed on the control", "param. 2.5%", "total 97.5%", "caution: "} {
+			if !strings.Contains(out, w) {
+				t.Errorf("%s: text lacks %q", rep.Method, w)
+			}
+		}
+		if strings.Contains(out, "Posterior (") != (rep.Method == gauged.Bayesian) {
+			t.Errorf("%s: posterior section present: %v", rep.Method, strings.Contains(out, "Posterior ("))
+		}
+	}
+}
+
+// The workbook of a Bayesian fit has the bands and posterior sheets: the
+// posterior one row per parameter under PosteriorColumns, the bands with
+// their half-widths 50·(upper − lower)/discharge in percent.
+func TestWriteFitWorkbookBandsPosterior(t *testing.T) {
+	_, bayes := fitReports(t)
+	var buf bytes.Buffer
+	if err := results.WriteFitWorkbook(&buf, bayes); err != nil {
+		t.Fatal(err)
+	}
+	f := openWritten(t, &buf)
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetFitTable, results.SheetBands, results.SheetPosterior, results.SheetLookup}
+	if got := f.GetSheetList(); !slices.Equal(got, want) {
+		t.Fatalf("sheets %q, want %q", got, want)
+	}
+	rows, err := f.GetRows(results.SheetPosterior)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(rows[0], results.PosteriorColumns()) || len(rows)-1 != len(bayes.Fit.Posterior.Parameters) {
+		t.Errorf("posterior sheet header %q, %d rows for %d parameters", rows[0], len(rows)-1, len(bayes.Fit.Posterior.Parameters))
+	}
+	rows, err = f.GetRows(results.SheetBands)
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := func(name string) int {
+		for i, h := range rows[0] {
+			if strings.HasPrefix(h, name) {
+				return i
+			}
+		}
+		t.Fatalf("no column %q in %q", name, rows[0])
+		return -1
+	}
+	ct := col("total_half_width")
+	for i, r := range bayes.Table.Rows {
+		if !(r.Discharge > 0) {
+			continue
+		}
+		got, err := strconv.ParseFloat(rows[i+1][ct], 64)
+		if want := 50 * (r.TotalUpper - r.TotalLower) / r.Discharge; err != nil || math.Abs(got-want) > halfWidthTol*want {
+			t.Errorf("row %d: total half-width %q, want %g", i+1, rows[i+1][ct], want)
+		}
+	}
+	g, err := f.GetRows(results.SheetGaugings)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(g[0], "exclude") || !slices.Contains(g[0], "uncertainty (%)") || !slices.Contains(g[0], "excluded_reason") {
+		t.Errorf("gaugings header %q", g[0])
+	}
+}
