@@ -229,3 +229,39 @@ func formatUnix(sec int64) string {
 	}
 	return time.Unix(sec, 0).UTC().Format(time.RFC3339)
 }
+
+// ReadGaugingsAt reads gaugings as ReadGaugings does, except that a time
+// written without an offset (or a workbook date cell) is taken at UTC plus
+// offset, as the stage record and the shift diagrams of the same gauge are
+// read; ReadGaugings takes such times as UTC. Errors are ReadGaugings',
+// and record.ErrUTCOffset for an offset out of range.
+func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) {
+	t, err := readTable(path, sheet, FieldSheetGaugings)
+	if err != nil {
+		return Gaugings{}, err
+	}
+	off, err := checkOffset(offset)
+	if err != nil {
+		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
+	}
+	gs, err := GaugingsFromTable(t)
+	if err != nil || off == 0 {
+		return gs, err
+	}
+	ct := t.Column(ColGaugingTime)
+	cells := make(map[string]string, len(t.Records))
+	for _, rec := range t.Records {
+		cells[where(t, rec.Row)] = t.Cell(rec, ct)
+	}
+	inWorkbook := t.Sheet != ""
+	for i, g := range gs.Gaugings {
+		s := cells[g.Source]
+		utc, err1 := cellTime(s, inWorkbook, t.Date1904, 0)
+		local, err2 := cellTime(s, inWorkbook, t.Date1904, off)
+		usable := func(err error) bool { return err == nil || errors.Is(err, ErrSubSecond) }
+		if usable(err1) && usable(err2) && utc != local { // written without an offset
+			gs.Gaugings[i].Time = g.Time.Add(-offset)
+		}
+	}
+	return gs, nil
+}

@@ -1,0 +1,188 @@
+package plotting
+
+import (
+	"fmt"
+	"image/color"
+	"io"
+	"math"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+)
+
+// Styles of the two sides of a comparison: A dark and solid, B copper and
+// dashed, so a greyscale print keeps them apart.
+var (
+	styleA = func() draw.LineStyle { return lineStyle(colInk, 2.0) }
+	styleB = func() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg.Points(3)) }
+)
+
+// DrawRatingComparison draws two ratings compared: both curves over their
+// whole tables (stage against discharge) and the percent difference
+// 100·(B − A)/A against stage over their common range. site titles it;
+// base starts its file name.
+func DrawRatingComparison(c *gauged.RatingComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	if err := set.add("compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
+		return ratingComparisonFigure(w, c, site, size)
+	}); err != nil {
+		return nil, nil, err
+	}
+	return set.figs, set.warnings, nil
+}
+
+func tableXY(t gauged.RatingTable) plotter.XYs {
+	xy := make(plotter.XYs, 0, len(t.Points))
+	for _, p := range t.Points {
+		if finite(p.Stage, p.Discharge) {
+			xy = append(xy, plotter.XY{X: p.Discharge, Y: p.Stage})
+		}
+	}
+	return xy
+}
+
+func addLine(p *plot.Plot, xy plotter.XYs, label string, ls draw.LineStyle) {
+	if len(xy) < 2 {
+		return
+	}
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return
+	}
+	l.LineStyle = ls
+	p.Add(l)
+	if label != "" {
+		p.Legend.Add(label, l)
+	}
+}
+
+func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string, size Size) (Result, error) {
+	var res Result
+	un := names(c.Units)
+	if len(c.Rows) == 0 {
+		return res, fmt.Errorf("%w: the comparison has no rows", ErrNoData)
+	}
+	left := newPanel("The two ratings", "Discharge, "+un.discharge, "Stage, "+un.length)
+	addGrid(left)
+	addLine(left, tableXY(c.TableA), "A: "+c.A, styleA())
+	addLine(left, tableXY(c.TableB), "B: "+c.B, styleB())
+	left.Legend.Top, left.Legend.Left = true, true
+	left.Legend.XOffs = vg.Points(8)
+	if left.X.Min > 0 {
+		left.X.Min = 0
+	}
+	left.X.Tick.Marker, left.Y.Tick.Marker = linearTicks{}, linearTicks{}
+
+	right := newPanel("Difference of B from A", "100·(B − A)/A, %", "Stage, "+un.length)
+	addGrid(right)
+	right.Add(zeroLine{vertical: true})
+	var xy plotter.XYs
+	for _, r := range c.Rows {
+		if finite(r.Percent) {
+			xy = append(xy, plotter.XY{X: r.Percent, Y: r.Stage})
+		}
+	}
+	if len(xy) > 1 {
+		l, s, err := plotter.NewLinePoints(xy)
+		if err == nil {
+			l.LineStyle = lineStyle(colHydraulic, 1.6)
+			s.GlyphStyle = draw.GlyphStyle{Color: colHydraulic, Radius: vg.Points(2.2), Shape: draw.CircleGlyph{}}
+			right.Add(l, s)
+		}
+	} else {
+		res.Warnings = append(res.Warnings, "no percent difference to draw (A carries no flow in the common range)")
+	}
+	right.Y.Min, right.Y.Max = left.Y.Min, left.Y.Max
+	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
+	fig := figure{
+		title: titleOf(site, "", "two ratings compared"),
+		subtitle: fmt.Sprintf("common range %s to %s %s; largest difference %s %% at %s %s", fmtStage(c.From), fmtStage(c.To), un.length,
+			fmtNum(c.MaxPercent), fmtStage(c.MaxStage), un.length),
+		foot:      []string{DefaultCaution},
+		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+	}
+	err := render(w, size, fig, func(cv draw.Canvas) error {
+		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
+		return nil
+	})
+	return res, err
+}
+
+// DrawSectionComparison draws two surveys of one section overlaid, the
+// ground lines of A and B with the stages compared marked, and the
+// percent differences of area and conveyance, B from A, against stage.
+// site titles it; base starts its file name.
+func DrawSectionComparison(c *rating.SectionComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	if err := set.add("overlay", "the two surveys overlaid, and the differences of area and conveyance against stage", func(w io.Writer) (Result, error) {
+		return sectionComparisonFigure(w, c, site, size)
+	}); err != nil {
+		return nil, nil, err
+	}
+	return set.figs, set.warnings, nil
+}
+
+func groundXY(g rating.Ground) plotter.XYs {
+	xy := make(plotter.XYs, 0, len(g.Section.Points))
+	for _, p := range g.Section.Points {
+		if finite(p.Station, p.Elevation) {
+			xy = append(xy, plotter.XY{X: p.Station, Y: p.Elevation})
+		}
+	}
+	return xy
+}
+
+func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site string, size Size) (Result, error) {
+	var res Result
+	un := names(c.Units)
+	ga, gb := groundXY(c.GroundA), groundXY(c.GroundB)
+	if len(ga) < 2 && len(gb) < 2 && len(c.Rows) == 0 {
+		return res, fmt.Errorf("%w: neither survey has a ground line", ErrNoData)
+	}
+	left := newPanel("The two surveys", "Station, "+un.length, "Elevation, "+un.length)
+	addGrid(left)
+	if len(ga) < 2 || len(gb) < 2 {
+		res.Warnings = append(res.Warnings, "a survey without a ground line (a built conduit) is not drawn")
+	}
+	addLine(left, ga, "A: "+c.A, styleA())
+	addLine(left, gb, "B: "+c.B, styleB())
+	left.Legend.Top = true
+	left.X.Tick.Marker, left.Y.Tick.Marker = linearTicks{}, linearTicks{}
+
+	right := newPanel("Difference of B from A", "100·(B − A)/A, %", "Stage, "+un.length)
+	addGrid(right)
+	right.Add(zeroLine{vertical: true})
+	var area, conv plotter.XYs
+	for _, r := range c.Rows {
+		if r.A.Area > 0 && finite(r.Difference.Area) {
+			area = append(area, plotter.XY{X: 100 * r.Difference.Area / r.A.Area, Y: r.Stage})
+		}
+		if finite(r.ConveyancePercent) {
+			conv = append(conv, plotter.XY{X: r.ConveyancePercent, Y: r.Stage})
+		}
+	}
+	addLine(right, area, "area", lineStyle(colWater, 1.8))
+	addLine(right, conv, "conveyance", lineStyle(colHydraulic, 1.8, vg.Points(6), vg.Points(3)))
+	right.Legend.Top = true
+	if len(c.Rows) > 0 {
+		lo, hi := c.Rows[0].Stage, c.Rows[len(c.Rows)-1].Stage
+		right.Y.Min, right.Y.Max = math.Min(lo, hi), math.Max(lo, hi)
+	}
+	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
+	fig := figure{
+		title:     titleOf(site, "", "two surveys of one section compared"),
+		subtitle:  "B − A: more area or conveyance in B means scour (or a lower control) since A, less means fill",
+		foot:      []string{DefaultCaution},
+		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+	}
+	err := render(w, size, fig, func(cv draw.Canvas) error {
+		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
+		return nil
+	})
+	return res, err
+}
