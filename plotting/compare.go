@@ -61,6 +61,51 @@ func addLine(p *plot.Plot, xy plotter.XYs, label string, ls draw.LineStyle) {
 	}
 }
 
+// percentFloor is the least fraction of its greatest value in the range
+// that A must carry for a percent difference to set the percent axis: near
+// zero flow or a dry bed the percent grows without bound and would hide
+// the rest (those points run off the panel, as the subtitle says).
+const percentFloor = 0.01
+
+// percentRange returns the percent axis's bounds: the extremes of the
+// percents whose base is at least percentFloor of the greatest base, and
+// whether any percent lies beyond them.
+func percentRange(base, pct []float64) (lo, hi float64, clipped bool) {
+	top := 0.0
+	for _, b := range base {
+		if finite(b) {
+			top = math.Max(top, b)
+		}
+	}
+	lo, hi = math.Inf(1), math.Inf(-1)
+	for i, p := range pct {
+		if finite(p) && base[i] >= percentFloor*top {
+			lo, hi = math.Min(lo, p), math.Max(hi, p)
+		}
+	}
+	if lo > hi {
+		return 0, 0, false
+	}
+	lo, hi = math.Min(lo, 0), math.Max(hi, 0)
+	for i, p := range pct {
+		if finite(p) && base[i] < percentFloor*top && (p < lo || p > hi) {
+			clipped = true
+		}
+	}
+	pad := math.Max((hi-lo)*0.06, 0.5)
+	return lo - pad, hi + pad, clipped
+}
+
+// compareFoot is the foot of a comparison figure: a note when percents
+// near zero run off the panel, and the caution.
+func compareFoot(clipped bool) []string {
+	if !clipped {
+		return []string{DefaultCaution}
+	}
+	return []string{fmt.Sprintf("Percent differences where A is below %g %% of its greatest value in the range grow without bound near zero and run off the panel.", 100*percentFloor),
+		DefaultCaution}
+}
+
 func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string, size Size) (Result, error) {
 	var res Result
 	un := names(c.Units)
@@ -82,11 +127,14 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 	addGrid(right)
 	right.Add(zeroLine{vertical: true})
 	var xy plotter.XYs
+	var base, pct []float64
 	for _, r := range c.Rows {
 		if finite(r.Percent) {
 			xy = append(xy, plotter.XY{X: r.Percent, Y: r.Stage})
 		}
+		base, pct = append(base, r.A), append(pct, r.Percent)
 	}
+	plo, phi, clipped := percentRange(base, pct)
 	if len(xy) > 1 {
 		l, s, err := plotter.NewLinePoints(xy)
 		if err == nil {
@@ -98,12 +146,15 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 		res.Warnings = append(res.Warnings, "no percent difference to draw (A carries no flow in the common range)")
 	}
 	right.Y.Min, right.Y.Max = left.Y.Min, left.Y.Max
+	if phi > plo {
+		right.X.Min, right.X.Max = plo, phi
+	}
 	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
 	fig := figure{
 		title: titleOf(site, "", "two ratings compared"),
 		subtitle: fmt.Sprintf("common range %s to %s %s; largest difference %s %% at %s %s", fmtStage(c.From), fmtStage(c.To), un.length,
 			fmtNum(c.MaxPercent), fmtStage(c.MaxStage), un.length),
-		foot:      []string{DefaultCaution},
+		foot:      compareFoot(clipped),
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}
 	err := render(w, size, fig, func(cv draw.Canvas) error {
@@ -158,6 +209,7 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 	addGrid(right)
 	right.Add(zeroLine{vertical: true})
 	var area, conv plotter.XYs
+	var bases, pcts []float64
 	for _, r := range c.Rows {
 		if r.A.Area > 0 && finite(r.Difference.Area) {
 			area = append(area, plotter.XY{X: 100 * r.Difference.Area / r.A.Area, Y: r.Stage})
@@ -166,6 +218,21 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 			conv = append(conv, plotter.XY{X: r.ConveyancePercent, Y: r.Stage})
 		}
 	}
+	// The axis follows the larger of the two percents at each stage, each
+	// against its own base.
+	areaTop, convTop := 0.0, 0.0
+	for _, r := range c.Rows {
+		areaTop, convTop = math.Max(areaTop, r.A.Area), math.Max(convTop, r.A.Conveyance)
+	}
+	for _, r := range c.Rows {
+		if r.A.Area > 0 {
+			bases, pcts = append(bases, r.A.Area/areaTop), append(pcts, 100*r.Difference.Area/r.A.Area)
+		}
+		if finite(r.ConveyancePercent) && convTop > 0 {
+			bases, pcts = append(bases, r.A.Conveyance/convTop), append(pcts, r.ConveyancePercent)
+		}
+	}
+	plo, phi, clipped := percentRange(bases, pcts)
 	addLine(right, area, "area", lineStyle(colWater, 1.8))
 	addLine(right, conv, "conveyance", lineStyle(colHydraulic, 1.8, vg.Points(6), vg.Points(3)))
 	right.Legend.Top = true
@@ -173,11 +240,14 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 		lo, hi := c.Rows[0].Stage, c.Rows[len(c.Rows)-1].Stage
 		right.Y.Min, right.Y.Max = math.Min(lo, hi), math.Max(lo, hi)
 	}
+	if phi > plo {
+		right.X.Min, right.X.Max = plo, phi
+	}
 	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
 	fig := figure{
 		title:     titleOf(site, "", "two surveys of one section compared"),
 		subtitle:  "B − A: more area or conveyance in B means scour (or a lower control) since A, less means fill",
-		foot:      []string{DefaultCaution},
+		foot:      compareFoot(clipped),
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}
 	err := render(w, size, fig, func(cv draw.Canvas) error {

@@ -251,14 +251,17 @@ func addRuns(p *plot.Plot, runs []recordRun, label string, ls draw.LineStyle) {
 }
 
 // periodLines marks the beginning of every rating period after the first.
-func periodLines(p *plot.Plot, froms []time.Time, names []string, z *time.Location, label bool) {
+func periodLines(p *plot.Plot, froms []time.Time, ratingNames []string, z *time.Location, label bool) {
 	for i, f := range froms {
 		if i == 0 || f.IsZero() {
 			continue
 		}
 		text := ""
 		if label {
-			text = fmt.Sprintf("period %d: %s", i+1, names[i])
+			text = fmt.Sprintf("rating period %d from %s", i+1, f.In(z).Format("2006-01-02 15:04"))
+			if ratingNames[i] == "no rating" {
+				text += ": no rating"
+			}
 		}
 		p.Add(vline{x: float64(f.Unix()), style: lineStyle(colBank, 1.1, vg.Points(6), vg.Points(3)), label: text})
 	}
@@ -405,7 +408,7 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 	}
 	fig := figure{
 		title:    titleOf(site, res.Name, "discharge record"),
-		subtitle: fmt.Sprintf("%d readings; %d rating period(s), %d shift diagram(s); gaps longer than %v not bridged", len(res.Units), len(res.Periods), len(res.Shifts), res.MaxGap),
+		subtitle: fmt.Sprintf("%d readings; %d rating period(s), %d shift diagram(s); gaps longer than %s not bridged", len(res.Units), len(res.Periods), len(res.Shifts), record.FormatDuration(res.MaxGap)),
 		foot: []string{"Provisional: a computed record is provisional until reviewed; check the shifts, the gaps and every flagged value.",
 			DefaultCaution},
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
@@ -423,16 +426,11 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 // periodsOf returns the beginning and the rating name of each of the
 // record's periods.
 func periodsOf(res *record.Result) ([]time.Time, []string) {
-	froms := make([]time.Time, len(res.Periods))
-	ns := make([]string, len(res.Periods))
+	ps := make([]gauged.Period, len(res.Periods))
 	for i, p := range res.Periods {
-		froms[i] = p.From
-		ns[i] = "no rating"
-		if p.Rating != nil {
-			ns[i] = p.Rating.Name
-		}
+		ps[i] = p.Period
 	}
-	return froms, ns
+	return periodStarts(ps)
 }
 
 // zoneName names a zone on an axis.
@@ -443,12 +441,11 @@ func zoneName(z *time.Location) string {
 	return z.String()
 }
 
-// historyFroms returns the beginning and the rating name of each period of
-// a history.
-func historyFroms(h gauged.History) ([]time.Time, []string) {
-	froms := make([]time.Time, len(h.Periods))
-	ns := make([]string, len(h.Periods))
-	for i, p := range h.Periods {
+// periodStarts returns the beginning and the rating name of each period.
+func periodStarts(ps []gauged.Period) ([]time.Time, []string) {
+	froms := make([]time.Time, len(ps))
+	ns := make([]string, len(ps))
+	for i, p := range ps {
 		froms[i] = p.From
 		ns[i] = "no rating"
 		if p.Rating != nil {

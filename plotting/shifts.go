@@ -49,7 +49,7 @@ func shiftFigure(c *gauged.ShiftCheck, site, what string) figure {
 	}
 	return figure{
 		title: titleOf(site, "", what),
-		subtitle: fmt.Sprintf("%d gaugings with a measured shift of %d, %d visits; shift = what is added to the gauge height for the rating to pass through the gauging",
+		subtitle: fmt.Sprintf("%d of %d gaugings with a measured shift, %d visits; shift = what is added to the gauge height for the rating to pass through the gauging",
 			measured, len(c.Gaugings), len(c.Visits)),
 		foot:      []string{DefaultCaution},
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
@@ -99,7 +99,7 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	}
 	addGaugingPoints(p, pts, true)
 	ringPoints(p, outside, "outside its band on the base rating")
-	froms, ns := historyFroms(c.History)
+	froms, ns := periodStarts(c.History.Periods)
 	periodLines(p, froms, ns, z, true)
 	if hi > lo {
 		pad := (hi - lo) * 0.03
@@ -107,6 +107,7 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	} else {
 		p.X.Min, p.X.Max = lo-86400, hi+86400
 	}
+	padAxis(&p.Y, shiftPad)
 	p.X.Tick.Marker = timeTicks{z}
 	p.Y.Tick.Marker = linearTicks{}
 	p.Legend.Top = true
@@ -187,9 +188,13 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 		{c.History.Shifts, "applied shift diagram", lineStyle(colWater, 1.4)},
 		{proposals(c), "proposed diagram (one per visit)", lineStyle(colFitted, 1.2, vg.Points(5), vg.Points(3))},
 	}
-	for _, set := range lines {
+	for k, set := range lines {
 		for i, d := range set.ds {
-			l, err := plotter.NewLine(diagramLine(d, lo, hi))
+			a, b := lo, hi
+			if k == 1 { // a proposal is drawn over the stages of its gaugings only
+				a, b = proposalSpan(d, (hi-lo)*proposalReach)
+			}
+			l, err := plotter.NewLine(diagramLine(d, a, b))
 			if err != nil {
 				continue
 			}
@@ -203,14 +208,44 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 	addGaugingPoints(p, pts, true)
 	ringPoints(p, outside, "outside its band on the base rating")
 	p.Y.Min, p.Y.Max = lo, hi
+	padAxis(&p.X, shiftPad)
 	p.X.Tick.Marker = linearTicks{}
 	p.Y.Tick.Marker = linearTicks{}
-	p.Legend.Top = true
+	p.Legend.Top, p.Legend.Left = true, true
+	p.Legend.XOffs = vg.Points(8)
 	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
 		p.Draw(cv)
 		return nil
 	})
 	return res, err
+}
+
+// shiftPad widens a shift axis beyond its data, as a fraction of the
+// range, and proposalReach is how far beyond its gaugings a proposed
+// diagram is drawn, as a fraction of the stage range.
+const (
+	shiftPad      = 0.08
+	proposalReach = 0.04
+)
+
+// padAxis widens an axis by a fraction of its range on each side (by a
+// little when the range is empty).
+func padAxis(ax *plot.Axis, f float64) {
+	d := (ax.Max - ax.Min) * f
+	if !(d > 0) {
+		d = math.Max(math.Abs(ax.Max), 1) * f
+	}
+	ax.Min, ax.Max = ax.Min-d, ax.Max+d
+}
+
+// proposalSpan is the stage span of a proposed diagram's points, widened
+// by reach.
+func proposalSpan(d gauged.ShiftDiagram, reach float64) (float64, float64) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range d.Points {
+		lo, hi = math.Min(lo, p.Stage), math.Max(hi, p.Stage)
+	}
+	return lo - reach, hi + reach
 }
 
 // proposals returns the visits' proposed diagrams.
@@ -223,5 +258,3 @@ func proposals(c *gauged.ShiftCheck) []gauged.ShiftDiagram {
 	}
 	return out
 }
-
-var _ plot.Ticker = timeTicks{}

@@ -167,7 +167,8 @@ type ratingGroup struct {
 func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOptions, warn *[]string) (gauged.Period, *ParseError) {
 	name := ratingName(t)
 	if !g.from.IsZero() {
-		name += " from " + g.from.Format(time.RFC3339)
+		// The time as the table or the caller wrote it: at its offset.
+		name += " from " + g.from.In(time.FixedZone("", int(opt.UTCOffset/time.Second))).Format(time.RFC3339)
 	}
 	rt := &gauged.RatingTable{Name: name, Points: g.points, HasZeroFlow: opt.HasZeroFlow, ZeroFlow: opt.ZeroFlow,
 		HasHighGauging: opt.HasHighGauging, HighGauging: opt.HighGauging, Extrapolate: opt.Extrapolate}

@@ -76,6 +76,7 @@ func demoSteps() []struct {
 		{"Gaugings at the Tallow Creek staff gauge (invented):", (*demo).fit},
 		{"A built section, the Mill Lane road culvert (invented):", (*demo).culvert},
 		{"Brindle Creek below Quarry Road, a post-flood slope-area reach (invented):", (*demo).slopeArea},
+		{"A year of record at the Tallow Creek gauge: visits, shifts, the discharge record (invented):", (*demo).record},
 	}
 }
 

@@ -3,6 +3,7 @@ package record
 import (
 	"errors"
 	"fmt"
+	"strings"
 	"time"
 
 	"wetline/rating"
@@ -301,9 +302,22 @@ func (res *Result) summarize(c *counter) {
 	say(c.flags[bit(Extrapolated)], "are outside the rating table: discharge extrapolated, as the rating asks")
 	say(c.flags[bit(AboveGaugings)], "are above the highest gauging of their rating")
 	if c.gaps > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %v are not bridged (the longest %v, from %s)",
-			c.gaps, res.MaxGap, time.Duration(c.longest)*time.Second, time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %s are not bridged (the longest %s, from %s)",
+			c.gaps, FormatDuration(res.MaxGap), FormatDuration(time.Duration(c.longest)*time.Second), time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
 	}
+}
+
+// FormatDuration writes a duration as reports state gaps and as a command
+// line takes them, without zero minutes or seconds: 2h, 1h30m, 45m.
+func FormatDuration(d time.Duration) string {
+	s := d.String()
+	if strings.HasSuffix(s, "m0s") {
+		s = strings.TrimSuffix(s, "0s")
+	}
+	if strings.HasSuffix(s, "h0m") {
+		s = strings.TrimSuffix(s, "0m")
+	}
+	return s
 }
 
 // bit is the index of a single flag's bit.

@@ -425,8 +425,8 @@ func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 		fmt.Fprintf(bw, " from %s to %s", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout),
 			time.Unix(res.Units[n-1].Time, 0).In(res.Zone).Format(RecordTimeLayout))
 	}
-	fmt.Fprintf(bw, "\nUnits: %s (gauge heights and shifts in %s, discharge in %s); days taken in %s; gaps longer than %v are not bridged\n",
-		u, u.Length(), u.Discharge(), zoneName(res.Zone), res.MaxGap)
+	fmt.Fprintf(bw, "\nUnits: %s (gauge heights and shifts in %s, discharge in %s); days taken in %s; gaps longer than %s are not bridged\n",
+		u, u.Length(), u.Discharge(), zoneName(res.Zone), record.FormatDuration(res.MaxGap))
 	if len(res.Provenance.Inputs) > 0 {
 		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(res.Provenance.Inputs), programName(res.Provenance))
 	}
@@ -469,9 +469,8 @@ func joinInputs(in []string) string {
 // writeRecordGaugingsText writes the gaugings set against the computed
 // record (the shifted rating at their times).
 func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.ShiftCheck) {
-	u := res.UnitSystem
 	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's quality band):\n")
-	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %8s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift")
+	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %8s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift used")
 	out := 0
 	for _, g := range c.Gaugings {
 		fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %7s%s %8s\n", g.Time.In(res.Zone).Format(RecordTimeLayout), fixed(g.Stage, 3),
@@ -480,7 +479,7 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 			out++
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %d gaugings lie outside their quality bands from the record (%s)\n", out, len(c.Gaugings), u.Discharge())
+	fmt.Fprintf(bw, "  %d of %d gaugings lie outside their quality bands from the record\n", out, len(c.Gaugings))
 }
 
 // writeDailyText writes the daily values as aligned columns.

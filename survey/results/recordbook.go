@@ -79,7 +79,6 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 		return err
 	}
 	b := newBook("wetline record: " + res.Name)
-	b.Footer = recordCaution(record.ProvisionalNote)
 	defer b.Close()
 	steps := []func(*workbook.Book, *record.Result) error{writeRecordSummary}
 	if tables&DailyTable != 0 {
@@ -148,7 +147,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"readings", len(res.Units), ""},
 		{"days", len(res.Daily), ""},
 		{"days taken in", zoneName(res.Zone), ""},
-		{"longest gap bridged", res.MaxGap.String(), ""},
+		{"longest gap bridged", record.FormatDuration(res.MaxGap), ""},
 		{"method", "effective gauge height h + s(t, h), discharge from the rating in force; daily mean time-weighted by the trapezoidal rule over the covered part of the day (Kennedy, 1983, USGS TWRI 3-A13)", ""},
 	}
 	if n := len(res.Units); n > 0 {

@@ -213,7 +213,6 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 //   - plots: the figures, when drawn.
 func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
 	b := newBook("wetline shifts")
-	b.Footer = recordCaution(record.ProvisionalNote)
 	defer b.Close()
 	z := zoneOf(c.UTCOffset)
 	ps, ss := shiftInfoOf(c)
