@@ -228,9 +228,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, u rating.Units
 		}
 		ps[i] = p
 		inputs = append(inputs, p.Inputs...)
-		for _, w := range p.Warnings {
-			warnings = append(warnings, p.Source()+": "+w)
-		}
+		warnings = append(warnings, p.Warnings...) // each names its file
 	}
 	stages, err := f.sectionStages(ps[0].Geometry, ps[1].Geometry)
 	if err != nil {

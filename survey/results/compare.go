@@ -104,7 +104,7 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	fmt.Fprintf(bw, "Common range of stage: %s to %s %s (neither table is extrapolated)\n", FormatLength(c.From), FormatLength(c.To), L)
 	fmt.Fprintf(bw, "Largest difference: %s %% at %s %s\n", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage), L)
 	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s\n", "stage", "A", "B", "B − A", "% diff.")
-	fmt.Fprintf(bw, "  %9s %12s %12s %12s %9s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")", "")
+	fmt.Fprintf(bw, "  %9s %12s %12s %12s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")")
 	for _, r := range c.Rows {
 		fmt.Fprintf(bw, "  %9.3f %12s %12s %12s %9s\n", r.Stage, sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2))
 	}
@@ -257,7 +257,7 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; both in one datum)\n", c.A, c.B, u)
 	fmt.Fprintf(bw, "Differences are B − A: a larger area or conveyance in B is scour (or a lower control), a smaller one fill.\n")
 	fmt.Fprintf(bw, "\n  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "stage", "area A", "area B", "Δ area", "Δ perim.", "Δ width", "conv. A", "conv. B", "Δ conv. %")
-	fmt.Fprintf(bw, "  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "("+L+")", "("+A+")", "("+A+")", "("+A+")", "("+L+")", "("+L+")", "("+u.Conveyance()+")", "", "")
+	fmt.Fprintf(bw, "  %9s %10s %10s %10s %9s %9s %12s %12s\n", "("+L+")", "("+A+")", "("+A+")", "("+A+")", "("+L+")", "("+L+")", "("+u.Conveyance()+")", "("+u.Conveyance()+")")
 	for _, r := range c.Rows {
 		fmt.Fprintf(bw, "  %9.3f %10s %10s %10s %9s %9s %12s %12s %9s\n", r.Stage, sig(r.A.Area, 5), sig(r.B.Area, 5), sig(r.Difference.Area, 4),
 			fixed(r.Difference.WettedPerimeter, 2), fixed(r.Difference.TopWidth, 2), sig(r.A.Conveyance, 5), sig(r.B.Conveyance, 5), fixed(r.ConveyancePercent, 2))

@@ -8,6 +8,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"strings"
 	"time"
 
 	"wetline/rating"
@@ -75,12 +76,13 @@ func recordInfo(res *record.Result) ([]periodInfo, []shiftInfo) {
 // a record of a million readings is written without a string per cell.
 type rowWriter struct {
 	w     *bufio.Writer
-	b     []byte
+	b     []byte   // the row
+	cell  []byte   // one cell, for padding
 	words []string // record.FlagWords()
 }
 
 func newRowWriter(w io.Writer) *rowWriter {
-	return &rowWriter{w: bufio.NewWriterSize(w, 1<<16), b: make([]byte, 0, 256), words: record.FlagWords()}
+	return &rowWriter{w: bufio.NewWriterSize(w, 1<<16), b: make([]byte, 0, 256), cell: make([]byte, 0, 64), words: record.FlagWords()}
 }
 
 // appendFloat6 appends v as FormatFloat writes it: six significant
@@ -493,8 +495,9 @@ func writeDailyText(rw *rowWriter, res *record.Result) {
 		if !d.MaxTime.IsZero() {
 			mt = d.MaxTime.In(res.Zone).Format(RecordTimeLayout)
 		}
-		fmt.Fprintf(bw, "  %-10s %10s %10s %10s %-25s %8s  %s\n", d.Date.In(res.Zone).Format(RecordDateLayout),
+		line := fmt.Sprintf("  %-10s %10s %10s %10s %-25s %8s  %s", d.Date.In(res.Zone).Format(RecordDateLayout),
 			sig(d.Mean, 4), sig(d.Min, 4), sig(d.Max, 4), mt, fixed(d.Coverage, 3), d.Flags)
+		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 	}
 }
 
@@ -506,25 +509,33 @@ func writeUnitText(rw *rowWriter, res *record.Result) error {
 	fmt.Fprintf(bw, "  %-25s %9s %8s %9s %11s %6s  %s\n", "time", "stage", "shift", "effective", "discharge", "period", "flags")
 	for _, v := range res.Units {
 		b := append(rw.b[:0], "  "...)
-		b = appendPadded(b, appendTime(nil, v.Time, res.Zone), 25, false)
+		c := rw.cell
+		c = appendTime(c[:0], v.Time, res.Zone)
+		b = appendPadded(b, c, 25, false)
 		b = append(b, ' ')
-		b = appendPadded(b, appendLength(nil, v.Stage), 9, true)
+		c = appendLength(c[:0], v.Stage)
+		b = appendPadded(b, c, 9, true)
 		b = append(b, ' ')
-		b = appendPadded(b, appendLength(nil, v.Shift), 8, true)
+		c = appendLength(c[:0], v.Shift)
+		b = appendPadded(b, c, 8, true)
 		b = append(b, ' ')
-		b = appendPadded(b, appendLength(nil, v.Effective), 9, true)
+		c = appendLength(c[:0], v.Effective)
+		b = appendPadded(b, c, 9, true)
 		b = append(b, ' ')
-		b = appendPadded(b, appendFloat6(nil, v.Discharge), 11, true)
+		c = appendFloat6(c[:0], v.Discharge)
+		b = appendPadded(b, c, 11, true)
 		b = append(b, ' ')
-		var p []byte
+		c = c[:0]
 		if v.Period >= 0 {
-			p = strconv.AppendInt(nil, int64(v.Period)+1, 10)
+			c = strconv.AppendInt(c, int64(v.Period)+1, 10)
 		}
-		b = appendPadded(b, p, 6, true)
-		b = append(b, "  "...)
-		b = rw.appendFlags(b, v.Flags, " ", false)
+		b = appendPadded(b, c, 6, true)
+		if v.Flags != 0 {
+			b = append(b, "  "...)
+			b = rw.appendFlags(b, v.Flags, " ", false)
+		}
 		b = append(b, '\n')
-		rw.b = b
+		rw.b, rw.cell = b, c
 		if _, err := bw.Write(b); err != nil {
 			return err
 		}
@@ -535,19 +546,20 @@ func writeUnitText(rw *rowWriter, res *record.Result) error {
 // appendPadded appends cell padded to width (right-aligned when right),
 // "-" for an empty cell.
 func appendPadded(b, cell []byte, width int, right bool) []byte {
-	if len(cell) == 0 {
-		cell = []byte{'-'}
-	}
-	pad := width - len(cell)
+	n := max(len(cell), 1)
 	if right {
-		for ; pad > 0; pad-- {
+		for pad := width - n; pad > 0; pad-- {
 			b = append(b, ' ')
 		}
-		return append(b, cell...)
+	}
+	if len(cell) == 0 {
+		b = append(b, '-')
 	}
 	b = append(b, cell...)
-	for ; pad > 0; pad-- {
-		b = append(b, ' ')
+	if !right {
+		for pad := width - n; pad > 0; pad-- {
+			b = append(b, ' ')
+		}
 	}
 	return b
 }

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"io"
+	"strings"
 	"time"
 
 	"wetline/rating"
@@ -175,9 +176,10 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 		if g.Period >= 0 {
 			period = fmt.Sprint(g.Period + 1)
 		}
-		fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %3s %10s %6s%s %8s %8s %8s %7s%s\n", g.Time.In(z).Format(RecordTimeLayout), fixed(g.Stage, 3),
+		line := fmt.Sprintf("  %-25s %8s %10s %-9s %3s %10s %6s%s %8s %8s %8s %7s%s", g.Time.In(z).Format(RecordTimeLayout), fixed(g.Stage, 3),
 			sig(g.Discharge, 4), g.Quality, period, sig(g.Rated, 4), fixed(g.Departure, 1), fitStar(g.Outside),
 			fixed(g.Shift, 3), fixed(g.Applied, 3), fixed(g.Residual, 3), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted))
+		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 	}
 	fmt.Fprintf(bw, "\nField visits and the shift diagram each proposes (through its measured shifts; write them with --proposed FILE, edit, and apply them with --shifts FILE):\n")
 	for k, v := range c.Visits {
