@@ -233,8 +233,9 @@ func formatUnix(sec int64) string {
 // ReadGaugingsAt reads gaugings as ReadGaugings does, except that a time
 // written without an offset (or a workbook date cell) is taken at UTC plus
 // offset, as the stage record and the shift diagrams of the same gauge are
-// read; ReadGaugings takes such times as UTC. Errors are ReadGaugings',
-// and record.ErrUTCOffset for an offset out of range.
+// read; ReadGaugings takes such times as UTC. Repeated times are found
+// among the instants so read. Errors are ReadGaugings', and
+// record.ErrUTCOffset for an offset out of range.
 func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) {
 	t, err := readTable(path, sheet, FieldSheetGaugings)
 	if err != nil {
@@ -244,24 +245,16 @@ func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) 
 	if err != nil {
 		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
 	}
-	gs, err := GaugingsFromTable(t)
-	if err != nil || off == 0 {
-		return gs, err
-	}
-	ct := t.Column(ColGaugingTime)
-	cells := make(map[string]string, len(t.Records))
-	for _, rec := range t.Records {
-		cells[where(t, rec.Row)] = t.Cell(rec, ct)
-	}
-	inWorkbook := t.Sheet != ""
-	for i, g := range gs.Gaugings {
-		s := cells[g.Source]
-		utc, err1 := cellTime(s, inWorkbook, t.Date1904, 0)
-		local, err2 := cellTime(s, inWorkbook, t.Date1904, off)
-		usable := func(err error) bool { return err == nil || errors.Is(err, ErrSubSecond) }
-		if usable(err1) && usable(err2) && utc != local { // written without an offset
-			gs.Gaugings[i].Time = g.Time.Add(-offset)
+	if ct := t.Column(ColGaugingTime); ct >= 0 && off != 0 {
+		inWorkbook := t.Sheet != ""
+		for _, rec := range t.Records {
+			s := t.Cell(rec, ct)
+			utc, err1 := cellTime(s, inWorkbook, t.Date1904, 0)
+			local, err2 := cellTime(s, inWorkbook, t.Date1904, off)
+			if err1 == nil && err2 == nil && utc != local { // written without an offset
+				rec.Cells[ct] = time.Unix(local, 0).UTC().Format(time.RFC3339)
+			}
 		}
 	}
-	return gs, nil
+	return GaugingsFromTable(t)
 }
