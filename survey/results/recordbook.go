@@ -192,7 +192,11 @@ func writeDailySheet(b *workbook.Book, res *record.Result) error {
 		if !d.MaxTime.IsZero() {
 			maxT, minT = wallClock(d.MaxTime, res.Zone), wallClock(d.MinTime, res.Zone)
 		}
-		if err := s.Row(wallClock(d.Date, res.Zone), d.Mean, d.Min, d.Max, maxT, d.Coverage, d.Flags.String(), minT, d.Readings); err != nil {
+		var flags any
+		if d.Flags != 0 {
+			flags = d.Flags.String()
+		}
+		if err := s.Row(wallClock(d.Date, res.Zone), d.Mean, d.Min, d.Max, maxT, d.Coverage, flags, minT, d.Readings); err != nil {
 			return err
 		}
 	}
