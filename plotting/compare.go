@@ -15,12 +15,10 @@ import (
 	"wetline/rating/gauged"
 )
 
-// Styles of the two sides of a comparison: A dark and solid, B copper and
-// dashed, so a greyscale print keeps them apart.
-var (
-	styleA = func() draw.LineStyle { return lineStyle(colInk, 2.0) }
-	styleB = func() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg.Points(3)) }
-)
+// styleA and styleB are the lines of the two sides of a comparison: A dark
+// and solid, B copper and dashed, so a greyscale print keeps them apart.
+func styleA() draw.LineStyle { return lineStyle(colInk, 2.0) }
+func styleB() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg.Points(3)) }
 
 // DrawRatingComparison draws two ratings compared: both curves over their
 // whole tables (stage against discharge) and the percent difference
