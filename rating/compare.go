@@ -28,16 +28,24 @@ type SectionDifference struct {
 }
 
 // SectionComparison is two surveys of one section over a range of stage:
-// scour or fill between them, the usual cause of a shift.
+// scour or fill between them, the usual cause of a shift. It is the report
+// of a comparison of two surveys, in every format.
 type SectionComparison struct {
+	// Provenance says what was read and by what (set by the caller).
+	Provenance Provenance
 	// A and B name the surveys.
 	A, B string
+	// GroundA and GroundB are the surveys as read, for the figure that
+	// overlays them (set by the caller; no points for none).
+	GroundA, GroundB Ground
 	// Units is the unit system of every value.
 	Units Units
 	// Rows are in the order of the stages given.
 	Rows []SectionDifference
 	// Warnings gather both tables' warnings, each prefixed with its survey.
 	Warnings []string
+	// Figures are the report's pictures (none until drawn).
+	Figures []Figure
 }
 
 // CompareSections computes area, wetted perimeter, top width and

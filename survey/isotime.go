@@ -229,3 +229,32 @@ func formatUnix(sec int64) string {
 	}
 	return time.Unix(sec, 0).UTC().Format(time.RFC3339)
 }
+
+// ReadGaugingsAt reads gaugings as ReadGaugings does, except that a time
+// written without an offset (or a workbook date cell) is taken at UTC plus
+// offset, as the stage record and the shift diagrams of the same gauge are
+// read; ReadGaugings takes such times as UTC. Repeated times are found
+// among the instants so read. Errors are ReadGaugings', and
+// record.ErrUTCOffset for an offset out of range.
+func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) {
+	t, err := readTable(path, sheet, FieldSheetGaugings)
+	if err != nil {
+		return Gaugings{}, err
+	}
+	off, err := checkOffset(offset)
+	if err != nil {
+		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
+	}
+	if ct := t.Column(ColGaugingTime); ct >= 0 && off != 0 {
+		inWorkbook := t.Sheet != ""
+		for _, rec := range t.Records {
+			s := t.Cell(rec, ct)
+			utc, err1 := cellTime(s, inWorkbook, t.Date1904, 0)
+			local, err2 := cellTime(s, inWorkbook, t.Date1904, off)
+			if err1 == nil && err2 == nil && utc != local { // written without an offset
+				rec.Cells[ct] = time.Unix(local, 0).UTC().Format(time.RFC3339)
+			}
+		}
+	}
+	return GaugingsFromTable(t)
+}

@@ -167,7 +167,8 @@ type ratingGroup struct {
 func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOptions, warn *[]string) (gauged.Period, *ParseError) {
 	name := ratingName(t)
 	if !g.from.IsZero() {
-		name += " from " + g.from.Format(time.RFC3339)
+		// The time as the table or the caller wrote it: at its offset.
+		name += " from " + g.from.In(time.FixedZone("", int(opt.UTCOffset/time.Second))).Format(time.RFC3339)
 	}
 	rt := &gauged.RatingTable{Name: name, Points: g.points, HasZeroFlow: opt.HasZeroFlow, ZeroFlow: opt.ZeroFlow,
 		HasHighGauging: opt.HasHighGauging, HighGauging: opt.HighGauging, Extrapolate: opt.Extrapolate}
@@ -229,4 +230,49 @@ func ratingName(t *Table) string {
 		return filepath.Base(t.File) + "['" + t.Sheet + "']"
 	}
 	return filepath.Base(t.File)
+}
+
+// TableKind says what a table holds, told by its columns.
+type TableKind int
+
+// Kinds of table.
+const (
+	// KindUnknown: neither a rating nor a survey.
+	KindUnknown TableKind = iota
+	// KindRating: a stage (or gauge_height) and a discharge column.
+	KindRating
+	// KindSection: a station and an elevation column (a surveyed section).
+	KindSection
+	// KindBoth: the columns of both, so the table cannot be told.
+	KindBoth
+)
+
+func (k TableKind) String() string {
+	switch k {
+	case KindRating:
+		return "rating table"
+	case KindSection:
+		return "surveyed section"
+	case KindBoth:
+		return "table with the columns of both a rating and a survey"
+	}
+	return "table that is neither a rating nor a survey"
+}
+
+// KindOf tells a rating table from a surveyed section by its columns:
+// stage (or gauge_height) and discharge make a rating, station and
+// elevation a survey.
+func KindOf(t *Table) TableKind {
+	rating := t.Column(ColRatingStage, ColGaugeHeight) >= 0 && t.Column(ColRatingDischarge) >= 0
+	_, _, coords := coordinateColumns(t)
+	section := (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0
+	switch {
+	case rating && section:
+		return KindBoth
+	case rating:
+		return KindRating
+	case section:
+		return KindSection
+	}
+	return KindUnknown
 }

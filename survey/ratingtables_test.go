@@ -82,3 +82,40 @@ func TestParseRatingTablesErrors(t *testing.T) {
 		})
 	}
 }
+
+// TestKindOf: a rating and a survey are told apart by their columns.
+func TestKindOf(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		header string
+		want   TableKind
+	}{
+		{"stage,discharge", KindRating},
+		{"gauge_height (m),discharge (m3/s),extrapolated", KindRating},
+		{"station,elevation,n,mark", KindSection},
+		{"station,elevation,stage,discharge", KindBoth},
+		{"time,stage", KindUnknown},
+	} {
+		tab, err := ParseCSV(strings.NewReader(c.header+"\n"), "t.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := KindOf(tab); got != c.want {
+			t.Errorf("%q: %v, want %v", c.header, got, c.want)
+		}
+	}
+}
+
+// TestRatingNameAtOffset: a rating given a start names it at the offset
+// its times are read in.
+func TestRatingNameAtOffset(t *testing.T) {
+	t.Parallel()
+	from := time.Date(2025, 2, 17, 20, 0, 0, 0, time.UTC)
+	rt, err := ParseRatingTables(strings.NewReader("stage,discharge\n0.3,0.5\n1,6\n"), "r8.csv", RatingTableOptions{From: from, UTCOffset: 10 * time.Hour})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := rt.Periods[0].Rating.Name; got != "r8.csv from 2025-02-18T06:00:00+10:00" {
+		t.Errorf("name %q", got)
+	}
+}

@@ -76,6 +76,7 @@ func demoSteps() []struct {
 		{"A built section, the Mill Lane road culvert (invented):", (*demo).culvert},
 		{"Brindle Creek below Quarry Road, a post-flood slope-area reach (invented):", (*demo).slopeArea},
 		{"Tallow Creek through the gauge, a step-backwater rating from the surveyed reach (invented):", (*demo).backwater},
+		{"A year of record at the Tallow Creek gauge: visits, shifts, the discharge record (invented):", (*demo).record},
 	}
 }
 

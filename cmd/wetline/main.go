@@ -43,6 +43,9 @@ func commandTable() map[string]command {
 		"plot":      {"draw rating, section and property figures (PNG) from a saved rating table", runPlot},
 		"template":  {"write a blank field workbook (cross-sections, reach, gaugings)", runTemplate},
 		"project":   {"turn a coordinate survey (easting, northing, elevation) into stations along its section line", runProject},
+		"shifts":    {"each gauging's shift against the rating in force, and a proposed shift diagram per visit", runShifts},
+		"record":    {"turn a stage record into unit and daily discharges with ratings and shifts", runRecord},
+		"compare":   {"compare two ratings, or two surveys of one section (scour or fill)", runCompare},
 	}
 }
 

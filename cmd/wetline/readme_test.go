@@ -11,7 +11,7 @@ import (
 // readmeFigures are the demo's figures the README shows, copied from a
 // demo run into testdata/readme with -update, so the README never shows a
 // figure the program no longer draws.
-var readmeFigures = [...]string{"tallow-fit.png", "tallow-xs1-section.png", "tallow-backwater-rating.png"}
+var readmeFigures = [...]string{"tallow-fit.png", "tallow-xs1-section.png", "tallow-backwater-rating.png", "tallow-stage-2025-hydrograph.png"}
 
 // TestReadmeFigures keeps the README's figures those of the demo: with
 // -update it copies them from a demo run; without, it checks each is a

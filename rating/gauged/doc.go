@@ -23,4 +23,16 @@
 // engine, FitPowerLaw and LookupTable, fits segments sharing one gauge
 // height of zero flow and extends the table by the scaled hydraulic
 // rating; it is kept as an independent check of the new one.
+//
+// A rating's life after it is built lives here too. RatingTable is a
+// gauge's rating as a table (any table of stage and discharge, with its
+// gauge height of zero flow), compiled into a TableRating that reads it
+// log-linearly in (h − e) between rows. ShiftDiagram is a shift as a
+// function of stage; History puts ratings in periods and diagrams in time,
+// and compiles into a Rater that prorates shifts between visits and
+// refuses a diagram falling faster than the stage rises. Rater.CheckGaugings
+// sets gaugings against the rating in force, proposes a diagram per field
+// visit and returns the ShiftCheck report; CompareRatings sets two ratings
+// side by side (a revision). Package record turns a stage record into the
+// discharge record with a Rater.
 package gauged

@@ -6,6 +6,8 @@ import (
 	"math"
 	"sort"
 	"time"
+
+	"wetline/rating"
 )
 
 // GaugingShift is a gauging measured against the rating in force at its
@@ -57,14 +59,31 @@ type Visit struct {
 	Proposal ShiftDiagram
 }
 
-// ShiftCheck is a set of gaugings measured against a rating history.
+// ShiftCheck is a set of gaugings measured against a rating history: the
+// report of the shifts command, in every format.
 type ShiftCheck struct {
+	// Provenance says what was read and by what (set by the caller).
+	Provenance rating.Provenance
+	// Units label the values (CheckOptions.Units); nothing is converted.
+	Units rating.Units
+	// UTCOffset is the offset in which reports write times
+	// (CheckOptions.UTCOffset).
+	UTCOffset time.Duration
+	// History is what the gaugings were measured against: the rating
+	// periods and the shift diagrams, as the rater holds them.
+	History History
+	// ShiftPeriods gives, for each diagram of History, the rating period
+	// whose shifts include it (-1 when the diagram is not used).
+	ShiftPeriods []int
 	// Gaugings are in input order.
 	Gaugings []GaugingShift
 	// Visits are in time order.
 	Visits []Visit
-	// Warnings are facts a reviewer should see.
+	// Warnings are facts a reviewer should see; they begin with the
+	// rater's own (diagrams not used).
 	Warnings []string
+	// Figures are the report's pictures (none until drawn).
+	Figures []rating.Figure
 }
 
 // CheckOptions configure CheckGaugings. The zero value groups gaugings
@@ -73,6 +92,11 @@ type CheckOptions struct {
 	// VisitGap is the longest time between consecutive gaugings of one
 	// visit (default DefaultVisitGap; ≥ 0).
 	VisitGap time.Duration
+	// Units label the values in reports (default SI); nothing is converted.
+	Units rating.Units
+	// UTCOffset is the offset from UTC in which reports write times (east
+	// positive; default 0, UTC); it changes no instant.
+	UTCOffset time.Duration
 }
 
 // DefaultVisitGap is the default longest time between gaugings of one
@@ -103,7 +127,8 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 	if gap == 0 {
 		gap = DefaultVisitGap
 	}
-	c := ShiftCheck{Gaugings: make([]GaugingShift, len(gs))}
+	c := ShiftCheck{Units: opt.Units, UTCOffset: opt.UTCOffset, History: r.History(), ShiftPeriods: append([]int(nil), r.used...),
+		Gaugings: make([]GaugingShift, len(gs)), Warnings: append([]string(nil), r.Warnings...)}
 	for i, g := range gs {
 		c.Gaugings[i] = r.checkOne(g, &c.Warnings)
 	}

@@ -206,3 +206,34 @@ func TestCheckGaugingsRefusedProposal(t *testing.T) {
 		t.Errorf("visits %+v warnings %q", c.Visits, c.Warnings)
 	}
 }
+
+// TestCheckStatesHistory: a check carries the history it was measured
+// against, the period of each diagram, the rater's warnings first and the
+// labels of its options.
+func TestCheckStatesHistory(t *testing.T) {
+	rt := linearRating("q=10h", 10)
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	h := History{
+		Periods: []Period{{From: at.Add(-48 * time.Hour), Rating: rt}},
+		Shifts: []ShiftDiagram{
+			{Time: at.Add(-72 * time.Hour), Points: []ShiftPoint{{Stage: 1, Shift: 0.1}}}, // before every period: not used
+			{Time: at, Points: []ShiftPoint{{Stage: 1, Shift: 0.2}}},
+		},
+	}
+	r := compileHistory(t, h)
+	c, err := r.CheckGaugings([]Gauging{{Time: at, Stage: 1, Discharge: 12, Source: "g:2"}}, CheckOptions{Units: rating.US, UTCOffset: -5 * time.Hour})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.History.Periods) != 1 || len(c.History.Shifts) != 2 || c.ShiftPeriods[0] != -1 || c.ShiftPeriods[1] != 0 {
+		t.Errorf("history %+v, periods %v", c.History, c.ShiftPeriods)
+	}
+	if len(c.Warnings) != 1 || c.Warnings[0] != r.Warnings[0] || c.Units != rating.US || c.UTCOffset != -5*time.Hour {
+		t.Errorf("warnings %q (rater %q), units %v, offset %v", c.Warnings, r.Warnings, c.Units, c.UTCOffset)
+	}
+	// The check's copy is its own.
+	c.History.Periods[0].Rating.Points[0].Discharge = 99
+	if r.History().Periods[0].Rating.Points[0].Discharge == 99 {
+		t.Error("the check shares the rater's tables")
+	}
+}

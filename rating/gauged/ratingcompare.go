@@ -19,10 +19,17 @@ type RatingDifference struct {
 	Difference, Percent float64
 }
 
-// RatingComparison is two ratings over the range of stage they share.
+// RatingComparison is two ratings over the range of stage they share: the
+// report of a comparison of two ratings, in every format.
 type RatingComparison struct {
+	// Provenance says what was read and by what (set by the caller).
+	Provenance rating.Provenance
+	// Units label the values (CompareOptions.Units); nothing is converted.
+	Units rating.Units
 	// A and B name the ratings.
 	A, B string
+	// TableA and TableB are the two rating tables as compared.
+	TableA, TableB RatingTable
 	// From and To bound the common range of stage (length unit).
 	From, To float64
 	// Rows ascend in stage.
@@ -30,6 +37,10 @@ type RatingComparison struct {
 	// MaxPercent is the largest absolute percent difference (percent) and
 	// MaxStage its gauge height (length unit); NaN when no row has one.
 	MaxPercent, MaxStage float64
+	// Warnings are facts a reviewer should see.
+	Warnings []string
+	// Figures are the report's pictures (none until drawn).
+	Figures []rating.Figure
 }
 
 // CompareOptions configure CompareRatings. The zero value compares at
@@ -39,6 +50,8 @@ type CompareOptions struct {
 	// either table in the common range). The ends of the range are always
 	// compared.
 	Step float64
+	// Units label the values in reports (default SI); nothing is converted.
+	Units rating.Units
 }
 
 // CompareRatings sets two ratings side by side at every stage of the range
@@ -49,7 +62,8 @@ type CompareOptions struct {
 func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, error) {
 	alo, ahi := a.Range()
 	blo, bhi := b.Range()
-	c := RatingComparison{A: a.Name(), B: b.Name(), From: math.Max(alo, blo), To: math.Min(ahi, bhi), MaxPercent: math.NaN(), MaxStage: math.NaN()}
+	c := RatingComparison{Units: opt.Units, A: a.Name(), B: b.Name(), TableA: a.Table(), TableB: b.Table(),
+		From: math.Max(alo, blo), To: math.Min(ahi, bhi), MaxPercent: math.NaN(), MaxStage: math.NaN()}
 	if !(c.From < c.To) {
 		return c, fmt.Errorf("%w: %g to %g and %g to %g", ErrNoCommonRange, alo, ahi, blo, bhi)
 	}

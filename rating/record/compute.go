@@ -3,8 +3,10 @@ package record
 import (
 	"errors"
 	"fmt"
+	"strings"
 	"time"
 
+	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
@@ -24,6 +26,14 @@ type Options struct {
 	// (east positive); default 0 (UTC); whole seconds, at most
 	// MaxUTCOffset either way.
 	UTCOffset time.Duration
+	// Gaugings, when given, are measured against the history at their
+	// times (gauged.Rater.CheckGaugings) and reported with the record: a
+	// gauging's departure from the shifted rating is its departure from
+	// the computed record.
+	Gaugings []gauged.Gauging
+	// UnitSystem labels the values in reports (default SI); nothing is
+	// converted.
+	UnitSystem rating.Units
 }
 
 // DefaultMaxGap is the default longest gap bridged between readings (a
@@ -101,10 +111,16 @@ type ShiftUse struct {
 	Period int
 }
 
-// Result is a computed discharge record.
+// Result is a computed discharge record: the report of the record
+// command, in every format.
 type Result struct {
+	// Provenance says what the record was computed from (set by the
+	// caller).
+	Provenance rating.Provenance
 	// Name is the stage record's name.
 	Name string
+	// UnitSystem labels the values (Options.UnitSystem).
+	UnitSystem rating.Units
 	// Units are the unit values, one per reading, in time order.
 	Units []UnitValue
 	// Daily are the calendar days from the first reading's to the last's.
@@ -119,8 +135,13 @@ type Result struct {
 	// UTCOffset, in which times are written.
 	MaxGap, UTCOffset time.Duration
 	Zone              *time.Location
+	// Gaugings are Options.Gaugings measured against the history; nil
+	// without gaugings.
+	Gaugings *gauged.ShiftCheck
 	// Warnings are facts a reviewer should see.
 	Warnings []string
+	// Figures are the record's pictures (none until drawn).
+	Figures []rating.Figure
 }
 
 // Compute turns a stage record into the discharge record with the rating
@@ -146,6 +167,9 @@ type Result struct {
 // shift diagram is split there too, the stage linear in time between its
 // readings and rated on each side with what is in force there.
 //
+// With Options.Gaugings, every gauging is measured against the history
+// (Result.Gaugings).
+//
 // Errors are a *StagesError for an unusable record and ErrMaxGap or
 // ErrUTCOffset for unusable options.
 //
@@ -166,7 +190,7 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	res := &Result{
 		Name: st.Name, Units: make([]UnitValue, len(st.Time)), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
-		Zone: zone(off),
+		Zone: zone(off), UnitSystem: opt.UnitSystem,
 	}
 	res.uses(r)
 	c := newCounter(res, st, off)
@@ -174,6 +198,15 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	c.integrate(st, r, maxGap)
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)
+	if len(opt.Gaugings) > 0 {
+		check, err := r.CheckGaugings(opt.Gaugings, gauged.CheckOptions{Units: opt.UnitSystem, UTCOffset: res.UTCOffset})
+		if err != nil {
+			return nil, err
+		}
+		res.Gaugings = &check
+		// The check's warnings begin with the rater's, stated above.
+		res.Warnings = append(res.Warnings, check.Warnings[len(r.Warnings):]...)
+	}
 	return res, nil
 }
 
@@ -269,9 +302,22 @@ func (res *Result) summarize(c *counter) {
 	say(c.flags[bit(Extrapolated)], "are outside the rating table: discharge extrapolated, as the rating asks")
 	say(c.flags[bit(AboveGaugings)], "are above the highest gauging of their rating")
 	if c.gaps > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %v are not bridged (the longest %v, from %s)",
-			c.gaps, res.MaxGap, time.Duration(c.longest)*time.Second, time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %s are not bridged (the longest %s, from %s)",
+			c.gaps, FormatDuration(res.MaxGap), FormatDuration(time.Duration(c.longest)*time.Second), time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
 	}
+}
+
+// FormatDuration writes a duration as reports state gaps and as a command
+// line takes them, without zero minutes or seconds: 2h, 1h30m, 45m.
+func FormatDuration(d time.Duration) string {
+	s := d.String()
+	if strings.HasSuffix(s, "m0s") {
+		s = strings.TrimSuffix(s, "0s")
+	}
+	if strings.HasSuffix(s, "h0m") {
+		s = strings.TrimSuffix(s, "0m")
+	}
+	return s
 }
 
 // bit is the index of a single flag's bit.

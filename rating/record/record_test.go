@@ -275,3 +275,39 @@ func TestFlagWords(t *testing.T) {
 		t.Errorf("words %q", FlagWords())
 	}
 }
+
+// TestRecordGaugings: gaugings given with the record are measured against
+// the history, their departure from the record being their departure from
+// the shifted rating; the rater's warnings are stated once.
+func TestRecordGaugings(t *testing.T) {
+	h := gauged.History{
+		Periods: []gauged.Period{{Rating: linear("q=10h", 10)}},
+		Shifts: []gauged.ShiftDiagram{
+			{Time: time.Unix(at(-48), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0.5}}},
+		},
+	}
+	// Q = 10·(2 + 0.5) = 25 at 2 m; a gauging of 26 departs by +4 %.
+	gs := []gauged.Gauging{{Time: time.Unix(at(6), 0), Stage: 2, Discharge: 26, Source: "g:2"}}
+	res := compute(t, stages(0, 2, 6, 2, 12, 2), rater(t, h), Options{Gaugings: gs})
+	c := res.Gaugings
+	if c == nil || len(c.Gaugings) != 1 {
+		t.Fatalf("gaugings %+v", c)
+	}
+	if g := c.Gaugings[0]; math.Abs(g.Shifted-25) > meanTol || math.Abs(g.ShiftedDeparture-4) > meanTol || g.Applied != 0.5 {
+		t.Errorf("gauging %+v", g)
+	}
+	if compute(t, stages(0, 2, 6, 2), rater(t, h), Options{}).Gaugings != nil {
+		t.Error("gaugings without any given")
+	}
+}
+
+func TestFormatDuration(t *testing.T) {
+	for _, c := range []struct {
+		d    time.Duration
+		want string
+	}{{2 * time.Hour, "2h"}, {90 * time.Minute, "1h30m"}, {45 * time.Minute, "45m"}, {44*time.Hour + 45*time.Minute, "44h45m"}, {30 * time.Second, "30s"}, {time.Hour + 5*time.Second, "1h0m5s"}} {
+		if got := FormatDuration(c.d); got != c.want {
+			t.Errorf("%v: %q, want %q", c.d, got, c.want)
+		}
+	}
+}

@@ -1,0 +1,290 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+
+	"wetline/plotting"
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/subdivide"
+	"wetline/survey"
+	"wetline/survey/results"
+)
+
+const compareUsage = "compare A B [--sheet-a NAME] [--sheet-b NAME] [--units si|us] " +
+	"[ratings: --zero-flow E[,E_B]] [--datum D[,D_B]] [--step D] " +
+	"[surveys: --stages LIST | --step D] [--n N] [--all-pools] " +
+	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+
+// compareFlags are the flags of the compare command.
+type compareFlags struct {
+	sheetA, sheetB string
+	units          string
+	coords         coordFlags
+	zeroFlow       numbers
+	datum          numbers
+	step           float64
+	stages         numbers
+	n              numbers
+	allPools       bool
+	format, output string
+	plots, site    string
+}
+
+func (f *compareFlags) register(fs *flagSet) {
+	fs.StringVar(&f.sheetA, "sheet-a", "", "workbook sheet of A (default: the first)")
+	fs.StringVar(&f.sheetB, "sheet-b", "", "workbook sheet of B (default: the first)")
+	fs.StringVar(&f.units, "units", "si", "unit system of both: si (m, m3/s) or us (ft, ft3/s); default: the units written in the surveys' headers, else si")
+	f.coords.register(fs, true)
+	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows)")
+	fs.Var(&f.datum, "datum", "ratings: subtract from the stages of both, or A,B: read tables of elevations at gauge heights")
+	fs.Float64Var(&f.step, "step", 0, "stage step of the comparison (default: ratings, every row stage of either table; surveys, a round step giving about 50 stages)")
+	fs.Var(&f.stages, "stages", "surveys: compare at these stages (comma-separated) instead of a range")
+	fs.Var(&f.n, "n", "surveys: Manning's n for both sections, or LEFT,CHANNEL,RIGHT (overrides the surveys' n column)")
+	fs.BoolVar(&f.allPools, "all-pools", false, "surveys: count water standing in pockets behind higher ground as flowing")
+	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
+	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.StringVar(&f.plots, "plots", "", "also write the comparison figure (PNG) into this folder")
+	fs.StringVar(&f.site, "site", "", "site name for the figure title")
+}
+
+// ratingOnly and sectionOnly are the flags that apply to one kind of
+// comparison.
+var (
+	ratingOnly  = [...]string{"zero-flow", "datum"}
+	sectionOnly = [...]string{"stages", "n", "all-pools", "line", "flow-azimuth", "offset-tolerance"}
+)
+
+func runCompare(ctx context.Context, e *env, args []string) error {
+	fs := newFlags("compare", compareUsage)
+	var f compareFlags
+	f.register(fs)
+	if err := fs.parse(e, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 2 {
+		return usagef("compare: want two files A and B (two ratings, or two surveys of one section), got %d arguments", fs.NArg())
+	}
+	format, err := outputFormat("compare", f.format, f.output, "text", "json", "csv", "xlsx")
+	if err != nil {
+		return err
+	}
+	if format == "xlsx" && (f.output == "" || f.output == "-") {
+		return usagef("compare: an xlsx workbook needs -o FILE.xlsx")
+	}
+	if err := fs.positive("step"); err != nil {
+		return err
+	}
+	u, err := rating.ParseUnits(f.units)
+	if err != nil {
+		return usageError{err: err}
+	}
+	a, b := fs.Arg(0), fs.Arg(1)
+	kind, err := f.kinds(a, b)
+	if err != nil {
+		return err
+	}
+	if kind == survey.KindRating {
+		return f.ratings(e, fs, a, b, u, format)
+	}
+	return f.sections(e, fs, a, b, u, format)
+}
+
+// kinds tells what A and B hold by their columns; they must be of one
+// kind.
+func (f *compareFlags) kinds(a, b string) (survey.TableKind, error) {
+	var ks [2]survey.TableKind
+	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
+		t, err := survey.ReadTable(in.path, in.sheet)
+		if err != nil {
+			return 0, err
+		}
+		ks[i] = survey.KindOf(t)
+		if ks[i] != survey.KindRating && ks[i] != survey.KindSection {
+			return 0, fmt.Errorf("compare: %s is a %s: a rating has stage (or gauge_height) and discharge columns, a survey station and elevation columns",
+				in.path, ks[i])
+		}
+	}
+	if ks[0] != ks[1] {
+		return 0, usagef("compare: %s is a %s and %s a %s: compare two ratings or two surveys", a, ks[0], b, ks[1])
+	}
+	return ks[0], nil
+}
+
+// refuse refuses flags given that do not apply to the comparison.
+func refuse(fs *flagSet, what string, names []string) error {
+	for _, n := range names {
+		if fs.Changed(n) {
+			return usagef("compare: --%s has no use when comparing %s", n, what)
+		}
+	}
+	return nil
+}
+
+// pair returns value i (0 for A, 1 for B) of a flag given once for both
+// or as A,B.
+func pair(fs *flagSet, name string, v numbers, i int) (float64, bool, error) {
+	switch len(v) {
+	case 0:
+		return 0, false, nil
+	case 1:
+		return v[0], true, nil
+	case 2:
+		return v[i], true, nil
+	}
+	return 0, false, usagef("compare: --%s gives %d values: give one for both, or A,B", name, len(v))
+}
+
+// ratings compares two rating tables.
+func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, u rating.Units, format string) error {
+	if err := refuse(fs, "ratings", sectionOnly[:]); err != nil {
+		return err
+	}
+	var tables [2]*gauged.TableRating
+	var warnings []string
+	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
+		opt := survey.RatingTableOptions{Sheet: in.sheet}
+		var err error
+		if opt.ZeroFlow, opt.HasZeroFlow, err = pair(fs, "zero-flow", f.zeroFlow, i); err != nil {
+			return err
+		}
+		if opt.Datum, _, err = pair(fs, "datum", f.datum, i); err != nil {
+			return err
+		}
+		rt, err := survey.ReadRatingTables(in.path, opt)
+		if err != nil {
+			return err
+		}
+		if n := len(rt.Periods); n != 1 {
+			return fmt.Errorf("compare: %s holds %d rating periods (a %s column): compare takes one rating per file", in.path, n, survey.ColRatingValidFrom)
+		}
+		warnings = append(warnings, rt.Warnings...)
+		if tables[i], err = rt.Periods[0].Rating.Compile(); err != nil {
+			return fmt.Errorf("%s: %w", in.path, err)
+		}
+	}
+	c, err := gauged.CompareRatings(tables[0], tables[1], gauged.CompareOptions{Step: f.step, Units: u})
+	if err != nil {
+		return fmt.Errorf("compare: %s and %s: %w", a, b, err)
+	}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: []string{a, b}}
+	c.Warnings = append(warnings, c.Warnings...)
+	if f.plots != "" || format == "xlsx" {
+		figs, w, err := plotting.DrawRatingComparison(&c, f.site, compareBase(a, b), plotting.Size{})
+		if err != nil {
+			return err
+		}
+		c.Figures, c.Warnings = figs, append(c.Warnings, w...)
+	}
+	write := map[string]func(io.Writer, *gauged.RatingComparison) error{
+		"text": results.WriteRatingComparisonText, "json": results.WriteRatingComparisonJSON,
+		"csv": results.WriteRatingComparisonCSV, "xlsx": results.WriteRatingComparisonWorkbook,
+	}[format]
+	what := fmt.Sprintf("two ratings, largest difference %s %% at stage %s", strings.TrimSpace(fmt.Sprintf("%.2f", c.MaxPercent)), results.FormatLength(c.MaxStage))
+	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) }, what, len(c.Rows))
+}
+
+// deliver writes a comparison report and its figures.
+func (f *compareFlags) deliver(e *env, format string, inputs, warnings []string, figs []rating.Figure, write func(io.Writer) error, what string, rows int) error {
+	if f.plots == "" {
+		figs = nil
+	}
+	return e.deliver(delivery{output: f.output, inputs: inputs, write: write,
+		inline: format == "text" || format == "json", warnings: warnings, plots: f.plots, figs: figs,
+		summary: func(w io.Writer) error { return results.WriteComparisonSummary(w, what, rows, warnings, f.output) }})
+}
+
+// compareBase names a comparison's figure after its two files.
+func compareBase(a, b string) string {
+	base := func(p string) string { return strings.TrimSuffix(filepath.Base(p), filepath.Ext(p)) }
+	return base(a) + "-vs-" + base(b)
+}
+
+// sections compares two surveys of one section.
+func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, u rating.Units, format string) error {
+	if err := refuse(fs, "surveys", ratingOnly[:]); err != nil {
+		return err
+	}
+	if len(f.stages) > 0 && fs.Changed("step") {
+		return usagef("compare: give --stages or --step, not both")
+	}
+	var ps [2]*survey.Prepared
+	var inputs, warnings []string
+	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
+		choice, err := unitChoice(f.units, fs.Changed("units"))
+		if err != nil {
+			return err
+		}
+		co, err := f.coords.options(fs, choice)
+		if err != nil {
+			return err
+		}
+		req := survey.SectionRequest{Path: in.path, Sheet: in.sheet, Units: choice.Units, UnitsGiven: choice.Given, Coordinates: co}
+		if i == 1 { // B in the units of A
+			req.Units, req.UnitsGiven = ps[0].Units, true
+		}
+		if len(f.n) > 0 {
+			req.N = f.n
+		}
+		p, err := survey.Prepare(req)
+		if err != nil {
+			if errors.Is(err, survey.ErrRequest) {
+				return usageError{err: err}
+			}
+			return err
+		}
+		ps[i] = p
+		inputs = append(inputs, p.Inputs...)
+		warnings = append(warnings, p.Warnings...) // each names its file
+	}
+	stages, err := f.sectionStages(ps[0].Geometry, ps[1].Geometry)
+	if err != nil {
+		return err
+	}
+	opt := rating.Options{Units: u, Geometry: subdivide.Options{AllPools: f.allPools}}
+	c, err := rating.CompareSections(ps[0].Geometry, ps[1].Geometry, stages, opt)
+	if err != nil {
+		return fmt.Errorf("compare: %w", err)
+	}
+	c.A, c.B = ps[0].Source(), ps[1].Source()
+	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs}
+	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
+	c.Warnings = append(warnings, c.Warnings...)
+	if f.plots != "" || format == "xlsx" {
+		figs, w, err := plotting.DrawSectionComparison(&c, f.site, compareBase(a, b), plotting.Size{})
+		if err != nil {
+			return err
+		}
+		c.Figures, c.Warnings = figs, append(c.Warnings, w...)
+	}
+	write := map[string]func(io.Writer, *rating.SectionComparison) error{
+		"text": results.WriteSectionComparisonText, "json": results.WriteSectionComparisonJSON,
+		"csv": results.WriteSectionComparisonCSV, "xlsx": results.WriteSectionComparisonWorkbook,
+	}[format]
+	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) },
+		"two surveys of one section", len(c.Rows))
+}
+
+// sectionStages are the stages of a comparison of two surveys: --stages,
+// a range at --step from the lower bottom to the lower top, or nil for
+// the default range.
+func (f *compareFlags) sectionStages(a, b subdivide.Geometry) ([]float64, error) {
+	if len(f.stages) > 0 {
+		return f.stages, nil
+	}
+	if f.step > 0 {
+		lo, hi := math.Min(a.Bottom(), b.Bottom()), math.Min(a.Top(), b.Top())
+		st, err := rating.StageRange(lo, hi, f.step)
+		if err != nil {
+			return nil, usageError{err: fmt.Errorf("compare: --step %g: %w", f.step, err)}
+		}
+		return st, nil
+	}
+	return nil, nil
+}

@@ -1,0 +1,170 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"wetline/plotting"
+)
+
+const (
+	recSectionA = "testdata/record/xs-a.csv"
+	recSectionB = "testdata/record/xs-b.csv"
+)
+
+func TestCompareGolden(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"compare-ratings.txt", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.2"}},
+		{"compare-ratings.csv", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.2", "--step", "0.25", "--format", "csv"}},
+		{"compare-sections.txt", []string{"compare", recSectionA, recSectionB, "--step", "0.5"}},
+		{"compare-sections.csv", []string{"compare", recSectionA, recSectionB, "--stages", "11,12", "--format", "csv"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			golden(t, filepath.Join("record", "golden", tc.name), out)
+		})
+	}
+}
+
+// TestCompareSectionsClosedForm: two trapezoids, A with a 4 m bottom at
+// 10 m, B the same banks scoured to a 3 m bottom at 9.5 m, side slopes
+// 1:1, n = 0.03. At stage 12 m (Chow, 1959, Open-Channel Hydraulics,
+// Table 2-1: A = (b + zy)y, P = b + 2y√(1+z²), T = b + 2zy):
+//
+//	A: y = 2,   area (4 + 2)·2 = 12 m²,      P = 4 + 4√2,  T = 8 m
+//	B: y = 2.5, area (3 + 2.5)·2.5 = 13.75, P = 3 + 5√2,  T = 8 m
+//
+// and Manning's conveyance K = A·R^(2/3)/n with R = A/P.
+func TestCompareSectionsClosedForm(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "compare", recSectionA, recSectionB, "--stages", "12", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Kind string
+		Rows []struct {
+			Stage                    float64
+			A, B, Difference         map[string]float64
+			ConveyancePercentDiffers float64 `json:"conveyance_percent_difference"`
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	const tol = 1e-9 // closed forms against the clipped polygon: round-off only
+	k := func(a, p float64) float64 { return a * math.Pow(a/p, 2.0/3) / 0.03 }
+	want := map[string][2]float64{
+		"area":             {12, 13.75},
+		"wetted_perimeter": {4 + 4*math.Sqrt2, 3 + 5*math.Sqrt2},
+		"top_width":        {8, 8},
+		"conveyance":       {k(12, 4+4*math.Sqrt2), k(13.75, 3+5*math.Sqrt2)},
+	}
+	if doc.Kind != "sections" || len(doc.Rows) != 1 {
+		t.Fatalf("kind %q, %d rows", doc.Kind, len(doc.Rows))
+	}
+	r := doc.Rows[0]
+	for key, w := range want {
+		if math.Abs(r.A[key]-w[0]) > tol*w[0] || math.Abs(r.B[key]-w[1]) > tol*w[1] || math.Abs(r.Difference[key]-(w[1]-w[0])) > tol*w[1] {
+			t.Errorf("%s: A %v B %v diff %v, want %v", key, r.A[key], r.B[key], r.Difference[key], w)
+		}
+	}
+	if p := 100 * (want["conveyance"][1] - want["conveyance"][0]) / want["conveyance"][0]; math.Abs(r.ConveyancePercentDiffers-p) > tol*p {
+		t.Errorf("conveyance percent %v, want %v", r.ConveyancePercentDiffers, p)
+	}
+}
+
+// TestCompareRatingsHand: rating-a and rating-b at a shared row stage,
+// 0.9 m: 5.20 and 6.00 m³/s, so B − A = 0.80 and 100·0.80/5.20 = 15.38 %.
+// Hand computation from the tables.
+func TestCompareRatingsHand(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "compare", recRatingA, recRatingB, "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Kind     string
+		From, To float64
+		Rows     []struct {
+			Stage   float64
+			A       float64 `json:"discharge_a"`
+			B       float64 `json:"discharge_b"`
+			Percent float64 `json:"percent_difference"`
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Kind != "ratings" || doc.From != 0.4 || doc.To != 1.6 {
+		t.Errorf("kind %q, range %g to %g", doc.Kind, doc.From, doc.To)
+	}
+	const tol = 1e-9 // one division
+	found := false
+	for _, r := range doc.Rows {
+		if r.Stage == 0.9 {
+			found = true
+			if r.A != 5.2 || r.B != 6 || math.Abs(r.Percent-100*0.8/5.2) > tol {
+				t.Errorf("0.9 m: %+v", r)
+			}
+		}
+	}
+	if !found {
+		t.Error("no row at 0.9 m")
+	}
+}
+
+func TestCompareFigures(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		a, b, fig string
+	}{
+		{recRatingA, recRatingB, "rating-a-vs-rating-b-compare.png"},
+		{recSectionA, recSectionB, "xs-a-vs-xs-b-overlay.png"},
+	} {
+		dir, plots := t.TempDir(), t.TempDir()
+		if _, errs, code := runCLI(t, "compare", c.a, c.b, "--plots", plots, "-o", filepath.Join(dir, "c.json")); code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		decodeAll(t, plots, []string{c.fig}, plotting.DefaultWidth, plotting.DefaultHeight)
+	}
+}
+
+func TestCompareRefusals(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"one file", []string{"compare", recRatingA}, 2, "want two files"},
+		{"mixed kinds", []string{"compare", recRatingA, recSectionA}, 2, "is a rating table and"},
+		{"neither kind", []string{"compare", recStages, recRatingA}, 1, "neither a rating nor a survey"},
+		{"rating flag on surveys", []string{"compare", recSectionA, recSectionB, "--zero-flow", "9"}, 2, "--zero-flow has no use when comparing surveys"},
+		{"survey flag on ratings", []string{"compare", recRatingA, recRatingB, "--stages", "1"}, 2, "--stages has no use when comparing ratings"},
+		{"three zero flows", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.1,0.2,0.3"}, 2, "one for both, or A,B"},
+		{"periods in a file", []string{"compare", "testdata/record/periods.csv", recRatingB}, 1, "holds 2 rating periods"},
+		{"no common range", []string{"compare", recRatingA, recRatingB, "--datum", "0,5"}, 1, "share no range"},
+		{"stages and step", []string{"compare", recSectionA, recSectionB, "--stages", "11", "--step", "0.5"}, 2, "not both"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, errs, code := runCLI(t, c.args...)
+			if code != c.code || !strings.Contains(errs, c.want) {
+				t.Errorf("exit %d, want %d; stderr %q should hold %q", code, c.code, errs, c.want)
+			}
+		})
+	}
+}

@@ -1,0 +1,388 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"time"
+
+	"wetline/plotting"
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/rating/record"
+	"wetline/survey"
+	"wetline/survey/results"
+)
+
+// The record and shifts commands build a rating history from flags: the
+// ratings with the time each comes into force, the shift diagrams, and
+// how to read them.
+
+// noRating is the --rating word for a period without a rating.
+const noRating = "none"
+
+// historyFlags are the flags that build a rating history.
+type historyFlags struct {
+	cmd         string
+	ratings     []string
+	ratingSheet string
+	zeroFlow    numbers
+	highest     numbers
+	extrapolate bool
+	datum       float64
+	shifts      string
+	shiftsSheet string
+	offset      utcOffset
+	units       string
+	unitSystem  rating.Units
+}
+
+func (hf *historyFlags) register(fs *flagSet) {
+	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
+		"or none@TIME for a period without a rating; repeat for each rating period")
+	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first)")
+	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order (log-linear in h − e between rows)")
+	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating (default: from an extrapolated column)")
+	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
+	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
+	fs.StringVar(&hf.shifts, "shifts", "", "shift diagrams FILE (time, stage, shift columns; optional taper and abrupt)")
+	fs.StringVar(&hf.shiftsSheet, "shifts-sheet", "", "workbook sheet of the shift diagrams (default: the first)")
+	fs.Var(&hf.offset, "utc-offset", "offset ±HH:MM of times written without one, in every file read; days and times are reported in it (default UTC)")
+	fs.StringVar(&hf.units, "units", "si", "unit system that labels the values: si (m, m3/s) or us (ft, ft3/s); nothing is converted")
+}
+
+// ratingSpec is one --rating: a file (or no rating) and when it comes into
+// force.
+type ratingSpec struct {
+	text, path string
+	none       bool
+	from       time.Time
+	hasFrom    bool
+}
+
+// parseRatingSpec reads FILE, FILE@TIME or none@TIME. A path that exists
+// as given is a file even when it holds an @.
+func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
+	spec := ratingSpec{text: s, path: s}
+	if i := strings.LastIndex(s, "@"); i >= 0 {
+		if _, err := os.Stat(s); err != nil {
+			t, err := survey.ParseISOTime(s[i+1:], time.Duration(hf.offset))
+			if err != nil {
+				return spec, usagef("%s: --rating %s: the time after @ is %v", hf.cmd, s, err)
+			}
+			spec.path, spec.from, spec.hasFrom = s[:i], t, true
+		}
+	}
+	if strings.EqualFold(spec.path, noRating) {
+		if !spec.hasFrom {
+			return spec, usagef("%s: --rating %s: a period without a rating needs its time: none@TIME", hf.cmd, s)
+		}
+		spec.none = true
+	}
+	if spec.path == "" {
+		return spec, usagef("%s: --rating %s: no file before the @", hf.cmd, s)
+	}
+	return spec, nil
+}
+
+// perRating returns value k of a list flag given once for all ratings or
+// once per rating.
+func perRating(v numbers, k int) (float64, bool) {
+	switch len(v) {
+	case 0:
+		return 0, false
+	case 1:
+		return v[0], true
+	}
+	return v[k], true
+}
+
+// datedPeriod is a rating period read, with the --rating it came from.
+type datedPeriod struct {
+	gauged.Period
+	spec string
+}
+
+// history reads the ratings and shift diagrams the flags name. Mistakes in
+// the flags are usage errors; bad files are data errors naming their
+// cells. It returns the history, the files read and the readers'
+// warnings.
+func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string, error) {
+	var h gauged.History
+	u, err := rating.ParseUnits(hf.units)
+	if err != nil {
+		return h, nil, nil, usageError{err: err}
+	}
+	hf.unitSystem = u
+	if len(hf.ratings) == 0 {
+		return h, nil, nil, usagef("%s: give the rating with --rating FILE (and --rating FILE@TIME for each later rating period)", hf.cmd)
+	}
+	for _, l := range []struct {
+		name string
+		v    numbers
+	}{{"zero-flow", hf.zeroFlow}, {"highest-gauging", hf.highest}} {
+		if n := len(l.v); n > 1 && n != len(hf.ratings) {
+			return h, nil, nil, usagef("%s: --%s gives %d values for %d --rating: give one for all, or one per --rating", hf.cmd, l.name, n, len(hf.ratings))
+		}
+	}
+	var inputs, warnings []string
+	var periods []datedPeriod
+	for k, s := range hf.ratings {
+		spec, err := hf.parseRatingSpec(s)
+		if err != nil {
+			return h, nil, nil, err
+		}
+		if spec.none {
+			periods = append(periods, datedPeriod{gauged.Period{From: spec.from}, s})
+			continue
+		}
+		opt := survey.RatingTableOptions{Sheet: hf.ratingSheet, Extrapolate: hf.extrapolate, Datum: hf.datum, From: spec.from,
+			UTCOffset: time.Duration(hf.offset)}
+		opt.ZeroFlow, opt.HasZeroFlow = perRating(hf.zeroFlow, k)
+		opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, k)
+		rt, err := survey.ReadRatingTables(spec.path, opt)
+		if err != nil {
+			return h, nil, nil, err
+		}
+		if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
+			return h, nil, nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
+				hf.cmd, s, spec.path, survey.ColRatingValidFrom)
+		}
+		inputs = append(inputs, spec.path)
+		warnings = append(warnings, rt.Warnings...)
+		for _, p := range rt.Periods {
+			periods = append(periods, datedPeriod{p, s})
+		}
+	}
+	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
+	for i, p := range periods {
+		if i > 0 && p.From.Equal(periods[i-1].From) {
+			when := "from the beginning"
+			if !p.From.IsZero() {
+				when = "at " + p.From.Format(time.RFC3339)
+			}
+			return h, nil, nil, usagef("%s: --rating %s and --rating %s both come into force %s: give each later rating its time, FILE@TIME",
+				hf.cmd, periods[i-1].spec, p.spec, when)
+		}
+		h.Periods = append(h.Periods, p.Period)
+	}
+	if hf.shifts != "" {
+		ds, err := survey.ReadShiftDiagrams(hf.shifts, survey.ShiftTableOptions{Sheet: hf.shiftsSheet, UTCOffset: time.Duration(hf.offset)})
+		if err != nil {
+			return h, nil, nil, err
+		}
+		h.Shifts = ds.Diagrams
+		inputs = append(inputs, hf.shifts)
+	} else if err := fs.needs("--shifts FILE", false, "shifts-sheet"); err != nil {
+		return h, nil, nil, err
+	}
+	return h, inputs, warnings, nil
+}
+
+// compile checks a history and prepares it for lookups.
+func (hf *historyFlags) compile(h gauged.History) (*gauged.Rater, error) {
+	r, err := h.Compile()
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", hf.cmd, err)
+	}
+	return r, nil
+}
+
+// utcOffset is a flag holding an offset from UTC: ±HH:MM, ±HHMM, ±HH, Z
+// or 0, within record.MaxUTCOffset.
+type utcOffset time.Duration
+
+func (o *utcOffset) String() string {
+	d := time.Duration(*o)
+	if d == 0 {
+		return "0"
+	}
+	s := int(d / time.Second)
+	sign := "+"
+	if s < 0 {
+		sign, s = "-", -s
+	}
+	return fmt.Sprintf("%s%02d:%02d", sign, s/3600, s/60%60)
+}
+
+func (o *utcOffset) Set(s string) error {
+	s = strings.TrimSpace(s)
+	switch strings.ToUpper(s) {
+	case "", "Z", "0", "UTC":
+		*o = 0
+		return nil
+	}
+	bad := fmt.Errorf("%q is not an offset from UTC: write +10:00, -05:30, +0930 or Z", s)
+	sign := time.Duration(1)
+	switch s[0] {
+	case '+':
+	case '-':
+		sign = -1
+	default:
+		return bad
+	}
+	body := strings.ReplaceAll(s[1:], ":", "")
+	if len(body) != 2 && len(body) != 4 {
+		return bad
+	}
+	hh, err1 := strconv.Atoi(body[:2])
+	mm := 0
+	var err2 error
+	if len(body) == 4 {
+		mm, err2 = strconv.Atoi(body[2:])
+	}
+	d := sign * (time.Duration(hh)*time.Hour + time.Duration(mm)*time.Minute)
+	if err1 != nil || err2 != nil || mm > 59 || d > record.MaxUTCOffset || d < -record.MaxUTCOffset {
+		return bad
+	}
+	*o = utcOffset(d)
+	return nil
+}
+
+func (o *utcOffset) Type() string { return "offset" }
+
+const recordUsage = "record STAGES --rating FILE[@TIME] [--rating FILE@TIME ...] [--shifts FILE] [--gaugings FILE] [--daily] [--unit] " +
+	"[--max-gap DURATION] [--utc-offset ±HH:MM] [--zero-flow E] [--highest-gauging H] [--extrapolate] [--datum D] [--units si|us] " +
+	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+
+// recordFlags are the flags of the record command.
+type recordFlags struct {
+	historyFlags
+	sheet         string
+	gaugings      string
+	gaugingsSheet string
+	daily, unit   bool
+	maxGap        time.Duration
+	format        string
+	output        string
+	plots, site   string
+}
+
+func (f *recordFlags) register(fs *flagSet) {
+	f.historyFlags.register(fs)
+	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet of the stage record (default: the first)")
+	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: set against the record and drawn on the hydrograph")
+	fs.StringVar(&f.gaugingsSheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
+	fs.BoolVar(&f.daily, "daily", false, "write the daily values (the default in text and CSV; with --unit too, both)")
+	fs.BoolVar(&f.unit, "unit", false, "write the unit values, one row per reading (JSON and workbooks write both tables by default)")
+	fs.DurationVar(&f.maxGap, "max-gap", record.DefaultMaxGap, "longest time between readings that is bridged, as 90m or 2h; longer gaps are left uncovered")
+	fs.StringVar(&f.format, "format", "", "output format: text, json, csv (one table) or xlsx (needs -o); default: from the -o extension, else text")
+	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.StringVar(&f.plots, "plots", "", "also write the hydrograph figure (PNG) into this folder")
+	fs.StringVar(&f.site, "site", "", "site name for the figure title")
+}
+
+// tables turns --daily and --unit into the tables to write.
+func (f *recordFlags) tables() results.RecordTables {
+	var t results.RecordTables
+	if f.daily {
+		t |= results.DailyTable
+	}
+	if f.unit {
+		t |= results.UnitTable
+	}
+	return t
+}
+
+func runRecord(ctx context.Context, e *env, args []string) error {
+	fs := newFlags("record", recordUsage)
+	f := recordFlags{historyFlags: historyFlags{cmd: "record"}}
+	f.register(fs)
+	if err := fs.parse(e, args); err != nil {
+		return err
+	}
+	if fs.NArg() != 1 {
+		return usagef("record: want one STAGES file (time and stage columns), got %d arguments", fs.NArg())
+	}
+	format, err := outputFormat("record", f.format, f.output, "text", "json", "csv", "xlsx")
+	if err != nil {
+		return err
+	}
+	if format == "xlsx" && (f.output == "" || f.output == "-") {
+		return usagef("record: an xlsx workbook needs -o FILE.xlsx")
+	}
+	tables := f.tables()
+	if format == "csv" && tables == results.UnitTable|results.DailyTable {
+		return usagef("record: %v: give --unit or --daily, or write JSON or a workbook for both", results.ErrOneTable)
+	}
+	if !(f.maxGap > 0) || f.maxGap%time.Second != 0 {
+		return usagef("record: --max-gap %v: want a positive whole number of seconds, as 90m or 2h", f.maxGap)
+	}
+	if err := fs.needs("--gaugings FILE", f.gaugings != "", "gaugings-sheet"); err != nil {
+		return err
+	}
+	res, err := f.compute(fs, fs.Arg(0), format, tables)
+	if err != nil {
+		return err
+	}
+	if f.plots != "" || format == "xlsx" {
+		base := strings.TrimSuffix(filepath.Base(fs.Arg(0)), filepath.Ext(fs.Arg(0)))
+		figs, w, err := plotting.DrawRecord(res, f.site, base, plotting.Size{})
+		if err != nil {
+			return err
+		}
+		res.Figures, res.Warnings = figs, append(res.Warnings, w...)
+	}
+	figs := res.Figures
+	if f.plots == "" {
+		figs = nil
+	}
+	write := map[string]func(io.Writer, *record.Result, results.RecordTables) error{
+		"text": results.WriteRecordText, "json": results.WriteRecordJSON, "csv": results.WriteRecordCSV, "xlsx": results.WriteRecordWorkbook,
+	}[format]
+	return e.deliver(delivery{output: f.output, inputs: res.Provenance.Inputs,
+		write:  func(w io.Writer) error { return write(w, res, tables) },
+		inline: format == "text" || format == "json", warnings: append(append([]string(nil), res.Warnings...), "provisional: "+record.ProvisionalNote),
+		plots: f.plots, figs: figs,
+		summary: func(w io.Writer) error { return results.WriteRecordSummary(w, res, f.output) }})
+}
+
+// compute reads the history, the stage record and the gaugings, and
+// computes the record. A workbook too small for the unit values is
+// refused before the record is computed.
+func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.RecordTables) (*record.Result, error) {
+	h, inputs, warnings, err := f.history(fs)
+	if err != nil {
+		return nil, err
+	}
+	r, err := f.compile(h)
+	if err != nil {
+		return nil, err
+	}
+	sr, err := survey.ReadStageRecord(path, survey.StageRecordOptions{Sheet: f.sheet, UTCOffset: time.Duration(f.offset)})
+	if err != nil {
+		return nil, err
+	}
+	st := &sr.Stages
+	if format == "xlsx" {
+		days := int((st.Time[st.Len()-1]-st.Time[0])/86400) + 2
+		if err := results.CheckRecordWorkbook(st.Len(), days, tables); err != nil {
+			return nil, fmt.Errorf("record: %s: %w", path, err)
+		}
+	}
+	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset), UnitSystem: f.unitSystem}
+	inputs = append([]string{path}, inputs...)
+	warnings = append(warnings, sr.Warnings...)
+	if f.gaugings != "" {
+		gs, err := survey.ReadGaugingsAt(f.gaugings, f.gaugingsSheet, time.Duration(f.offset))
+		if err != nil {
+			return nil, err
+		}
+		opt.Gaugings = gs.Gaugings
+		inputs = append(inputs, f.gaugings)
+		warnings = append(warnings, gs.Warnings...)
+	}
+	res, err := record.Compute(st, r, opt)
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	res.Name = filepath.Base(path)
+	res.Provenance = rating.Provenance{Program: program(), Inputs: inputs}
+	res.Warnings = append(warnings, res.Warnings...)
+	return res, nil
+}

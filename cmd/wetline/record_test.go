@@ -1,0 +1,381 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"image/png"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/plotting"
+	"wetline/survey/results"
+)
+
+// Test inputs of the record, shifts and compare commands (invented).
+const (
+	recStages   = "testdata/record/stage.csv"
+	recRatingA  = "testdata/record/rating-a.csv"
+	recRatingB  = "testdata/record/rating-b.csv"
+	recShifts   = "testdata/record/shifts.csv"
+	recGaugings = "testdata/record/gaugings.csv"
+)
+
+// recordArgs are the arguments of a record with two rating periods, shift
+// diagrams and gaugings.
+func recordArgs(extra ...string) []string {
+	args := []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB + "@2024-05-02T12:00",
+		"--zero-flow", "0.2", "--shifts", recShifts, "--gaugings", recGaugings, "--max-gap", "4h"}
+	return append(args, extra...)
+}
+
+func TestRecordGolden(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"record.txt", recordArgs()},
+		{"record-unit.txt", recordArgs("--unit", "--utc-offset", "+10:00")},
+		{"record-daily.csv", recordArgs("--format", "csv")},
+		{"record-unit.csv", recordArgs("--unit", "--format", "csv")},
+		{"record.json", recordArgs("--format", "json")},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			golden(t, filepath.Join("record", "golden", tc.name), out)
+		})
+	}
+}
+
+// jsonKeys returns the keys of a JSON object in the order written.
+func jsonKeys(t *testing.T, data []byte) []string {
+	t.Helper()
+	dec := json.NewDecoder(bytes.NewReader(data))
+	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
+		t.Fatalf("not a JSON object: %v %v", tok, err)
+	}
+	var keys []string
+	for dec.More() {
+		tok, err := dec.Token()
+		if err != nil {
+			t.Fatal(err)
+		}
+		keys = append(keys, tok.(string))
+		var skip json.RawMessage
+		if err := dec.Decode(&skip); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return keys
+}
+
+// firstOf returns the first element of the list at key of a JSON object.
+func firstOf(t *testing.T, data []byte, key string) []byte {
+	t.Helper()
+	var doc map[string]json.RawMessage
+	var list []json.RawMessage
+	if err := json.Unmarshal(data, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(doc[key], &list); err != nil || len(list) == 0 {
+		t.Fatalf("%s is not a list with rows: %v", key, err)
+	}
+	return list[0]
+}
+
+// TestRecordJSONContract: the record's JSON has exactly the keys of the
+// contract, in order, and so do its unit and daily rows.
+func TestRecordJSONContract(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, recordArgs("--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	data := []byte(out)
+	for _, c := range []struct {
+		got, want []string
+	}{
+		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution"}},
+		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags"}},
+		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags"}},
+		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table"}},
+		{jsonKeys(t, firstOf(t, data, "shifts")), []string{"time", "rating_period", "abrupt", "taper", "points", "source"}},
+	} {
+		if strings.Join(c.got, ",") != strings.Join(c.want, ",") {
+			t.Errorf("keys %q, want %q", c.got, c.want)
+		}
+	}
+	var doc struct {
+		Caution string
+		Daily   []struct{ Mean *float64 }
+	}
+	if err := json.Unmarshal(data, &doc); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(doc.Caution, "provisional") || !strings.Contains(doc.Caution, "verify them against discharge measurements") {
+		t.Errorf("caution %q", doc.Caution)
+	}
+	// --daily leaves the unit values out (null), --unit the daily values.
+	for _, c := range []struct{ flag, null string }{{"--daily", "unit"}, {"--unit", "daily"}} {
+		out, _, code := runCLI(t, recordArgs("--format", "json", c.flag)...)
+		var doc map[string]json.RawMessage
+		if code != 0 || json.Unmarshal([]byte(out), &doc) != nil || string(doc[c.null]) != "null" {
+			t.Errorf("%s: exit %d, %s = %s", c.flag, code, c.null, doc[c.null])
+		}
+	}
+}
+
+// TestRecordHandComputed: the rating Q = 10·h (rows at 0 and 10 m, linear
+// between them), readings every 6 h on 1 January 2024 at 1, 2, 3, 2 and
+// 1 m. Trapezoids by hand: ½(10+20)·6 + ½(20+30)·6 + ½(30+20)·6 +
+// ½(20+10)·6 = 480 m³/s·h over 24 h, a daily mean of 20 m³/s (the
+// discharge of the mean stage, 1.8 m, would be 18). A constant shift of
+// +0.5 m adds 5 m³/s everywhere: 25. Hand computation.
+func TestRecordHandComputed(t *testing.T) {
+	t.Parallel()
+	const tol = 1e-9 // round-off on sums of a few products near 100
+	for _, c := range []struct {
+		shifts []string
+		mean   float64
+	}{{nil, 20}, {[]string{"--shifts", "testdata/record/constant-shift.csv"}, 25}} {
+		args := append([]string{"record", "testdata/record/linear-stage.csv", "--rating", "testdata/record/linear.csv", "--max-gap", "6h", "--format", "json"}, c.shifts...)
+		out, errs, code := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var doc struct {
+			Daily []struct {
+				Date     string
+				Mean     float64
+				Coverage float64
+				Max      float64
+				MaxTime  string `json:"max_time"`
+			}
+			Unit []struct {
+				Shift     float64
+				Discharge float64
+			}
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		d := doc.Daily[0]
+		if math.Abs(d.Mean-c.mean) > tol || d.Coverage != 1 || d.Date != "2024-01-01" || d.MaxTime != "2024-01-01T12:00:00Z" {
+			t.Errorf("shifts %v: day %+v, want mean %g", c.shifts, d, c.mean)
+		}
+		if u := doc.Unit[2]; math.Abs(u.Discharge-(c.mean+10)) > tol {
+			t.Errorf("shifts %v: noon %+v", c.shifts, u)
+		}
+	}
+}
+
+// TestRecordRefusals: each mistake exits with its status, names the
+// position or flag at fault, and writes nothing.
+func TestRecordRefusals(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	write := func(name, body string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	steep := write("steep.csv", "time,stage,shift\n2024-05-01,0.5,0.30\n2024-05-01,0.7,0.05\n")
+	repeated := write("repeated.csv", "time,stage\n2024-05-01T00:00,0.5\n2024-05-01T01:00,0.6\n2024-05-01T01:00,0.7\n")
+	bad := write("bad.csv", "time,stage\n2024-05-01T00:00,0.5\n2024-05-01T01:00,x\n")
+	for _, c := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"no rating", []string{"record", recStages}, 2, "--rating"},
+		{"two files", []string{"record", recStages, recStages, "--rating", recRatingA}, 2, "one STAGES file"},
+		{"both tables in csv", recordArgs("--unit", "--daily", "--format", "csv"), 2, "CSV file holds one table"},
+		{"xlsx to stdout", recordArgs("--format", "xlsx"), 2, "needs -o"},
+		{"bad extension", recordArgs("-o", filepath.Join(dir, "r.pdf")), 2, "extension"},
+		{"zero max gap", recordArgs("--max-gap", "0s"), 2, "--max-gap"},
+		{"bad offset", recordArgs("--utc-offset", "+25:00"), 2, "offset"},
+		{"bad rating time", []string{"record", recStages, "--rating", recRatingA + "@yesterday"}, 2, "the time after @"},
+		{"two from the beginning", []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB}, 2, "both come into force from the beginning"},
+		{"none without time", []string{"record", recStages, "--rating", "none"}, 2, "none@TIME"},
+		{"zero-flow count", []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB + "@2024-05-02", "--zero-flow", "0.1,0.2,0.3"}, 2, "3 values for 2 --rating"},
+		{"gaugings sheet without gaugings", recordArgs()[:5], 2, ""},
+		{"refused shift diagram", []string{"record", recStages, "--rating", recRatingA, "--shifts", steep}, 1, "steep.csv:3:3"},
+		{"repeated time", []string{"record", repeated, "--rating", recRatingA}, 1, "repeated.csv:4:1"},
+		{"bad stage", []string{"record", bad, "--rating", recRatingA}, 1, "bad.csv:3:2"},
+		{"missing rating file", []string{"record", recStages, "--rating", filepath.Join(dir, "nope.csv")}, 1, "nope.csv"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			if c.name == "gaugings sheet without gaugings" {
+				c.args = []string{"record", recStages, "--rating", recRatingA, "--gaugings-sheet", "g"}
+				c.want = "--gaugings-sheet needs --gaugings FILE"
+			}
+			out := filepath.Join(dir, strings.ReplaceAll(c.name, " ", "-")+".json")
+			args := append(append([]string(nil), c.args...), "-o", out)
+			if strings.Contains(strings.Join(c.args, " "), " -o ") || strings.Contains(c.name, "stdout") {
+				args = c.args
+			}
+			_, errs, code := runCLI(t, args...)
+			if code != c.code || !strings.Contains(errs, c.want) {
+				t.Errorf("exit %d, want %d; stderr %q should hold %q", code, c.code, errs, c.want)
+			}
+			if _, err := os.Stat(out); err == nil {
+				t.Error("an output file was written")
+			}
+		})
+	}
+}
+
+// TestRecordFlagsReadings: a period without a rating gives no discharge
+// and flags its readings; a stage beyond every table is outside the
+// rating; the record says so in its warnings.
+func TestRecordFlagsReadings(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "record", recStages, "--rating", recRatingA, "--rating", "none@2024-05-02T00:00", "--max-gap", "4h", "--unit", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if lines[0] != strings.Join(results.RecordUnitColumns(), ",") {
+		t.Errorf("header %q", lines[0])
+	}
+	// 2024-05-02T02:00 is in the period without a rating.
+	if !strings.HasPrefix(lines[9], "2024-05-02T02:00:00Z,0.66,,,,no_rating,2,") {
+		t.Errorf("row 9 %q", lines[9])
+	}
+	if !strings.Contains(errs, "have no rating in force") || !strings.Contains(errs, "provisional") {
+		t.Errorf("stderr %q", errs)
+	}
+}
+
+// TestRecordFiles: a workbook with its sheets and the hydrograph, a CSV
+// with the console summary, the figure a PNG of the default size.
+func TestRecordFiles(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	book := filepath.Join(dir, "record.xlsx")
+	plots := filepath.Join(dir, "plots")
+	_, errs, code := runCLI(t, recordArgs("-o", book, "--plots", plots, "--site", "Test Creek")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(errs, "wrote "+book) || !strings.Contains(errs, "provisional:") || !strings.Contains(errs, "caution:") {
+		t.Errorf("summary %q", errs)
+	}
+	decodeAll(t, plots, []string{"stage-hydrograph.png"}, plotting.DefaultWidth, plotting.DefaultHeight)
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	want := []string{results.SheetSummary, results.SheetDaily, results.SheetUnit, results.SheetRatings, results.SheetShifts, results.SheetGaugings, results.SheetPlots}
+	if got := f.GetSheetList(); strings.Join(got, "|") != strings.Join(want, "|") {
+		t.Errorf("sheets %q, want %q", got, want)
+	}
+	// The shifts sheet reads back as the diagrams it states.
+	_, errs, code = runCLI(t, "record", recStages, "--rating", recRatingA, "--shifts", book, "--shifts-sheet", results.SheetShifts, "--format", "csv")
+	if code != 0 {
+		t.Errorf("the workbook's shifts sheet does not read back: exit %d: %s", code, errs)
+	}
+}
+
+// FuzzUTCOffset: any text is an offset within bounds or an error, and an
+// offset written back reads the same.
+func FuzzUTCOffset(f *testing.F) {
+	for _, s := range []string{"+10:00", "-05:30", "+0930", "Z", "0", "+14:00", "+14:01", "10", "-", "+1:00"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		var o utcOffset
+		if err := o.Set(s); err != nil {
+			return
+		}
+		if d := time.Duration(o); d > 14*time.Hour || d < -14*time.Hour {
+			t.Fatalf("%q: %v out of bounds", s, d)
+		}
+		var back utcOffset
+		if err := back.Set(o.String()); err != nil || back != o {
+			t.Fatalf("%q → %q → %v, %v", s, o.String(), time.Duration(back), err)
+		}
+	})
+}
+
+// TestDemoRecord: the demo's year of record at Tallow Creek holds every
+// file it lists, its JSON keeps the contract, its accepted shifts bring
+// every gauging within its quality band, and its figures are PNGs of the
+// default size.
+func TestDemoRecord(t *testing.T) {
+	t.Parallel()
+	dir, out := demoOutput(t)
+	for _, name := range []string{demoStages, demoVisits, demoRating7, demoRating8, demoShifts, demoSurvey2025,
+		"tallow-shifts-check.txt", "tallow-shifts-proposed.csv", "tallow-record-2025.txt", "tallow-record-2025-daily.csv",
+		"tallow-record-2025-unit.csv", "tallow-record-2025.xlsx", "tallow-rating-7-vs-8.txt", "tallow-xs1-2019-vs-2025.txt"} {
+		if _, err := os.Stat(filepath.Join(dir, name)); err != nil {
+			t.Error(err)
+		}
+		if !strings.Contains(out, name) {
+			t.Errorf("the demo does not list %s", name)
+		}
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "tallow-record-2025.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution" {
+		t.Errorf("keys %s", got)
+	}
+	var doc struct {
+		Unit  []json.RawMessage
+		Daily []struct{ Coverage float64 }
+	}
+	if err := json.Unmarshal(data, &doc); err != nil {
+		t.Fatal(err)
+	}
+	const year = 365 * 96 // 15-minute readings in 2024-25, less the outage
+	if len(doc.Unit) >= year || len(doc.Unit) < year-200 || len(doc.Daily) != 365 {
+		t.Errorf("%d unit values, %d days", len(doc.Unit), len(doc.Daily))
+	}
+	text, err := os.ReadFile(filepath.Join(dir, "tallow-record-2025.txt"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(text), "0 of 13 gaugings lie outside their quality bands from the record") {
+		t.Error("the accepted shifts leave gaugings outside their bands")
+	}
+	for _, f := range []string{"tallow-stage-2025-hydrograph.png", "tallow-visits-2025-shift-time.png", "tallow-visits-2025-shift-stage.png",
+		"tallow-rating-7-vs-8-compare.png", "tallow-xs1-2019-vs-2025-overlay.png"} {
+		checkPNGSize(t, filepath.Join(dir, f), plotting.DefaultWidth, plotting.DefaultHeight)
+	}
+	// The proposed diagrams read back as shift diagrams.
+	if _, errs, code := runCLI(t, "shifts", filepath.Join(dir, demoVisits), "--rating", filepath.Join(dir, demoRating7),
+		"--rating", filepath.Join(dir, demoRating8)+"@2025-02-18T06:00", "--utc-offset", "+10:00", "--zero-flow", "0.32,0.26",
+		"--shifts", filepath.Join(dir, "tallow-shifts-proposed.csv"), "--format", "csv"); code != 0 {
+		t.Errorf("the proposed diagrams do not read back: exit %d: %s", code, errs)
+	}
+}
+
+// checkPNGSize checks a file is a PNG of the given size.
+func checkPNGSize(t *testing.T, path string, w, h int) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cfg, err := png.DecodeConfig(bytes.NewReader(data))
+	if err != nil || cfg.Width != w || cfg.Height != h {
+		t.Errorf("%s: %d×%d (%v), want %d×%d", path, cfg.Width, cfg.Height, err, w, h)
+	}
+}

@@ -1,0 +1,160 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/plotting"
+	"wetline/survey/results"
+)
+
+// shiftsArgs are the arguments of a shift check of the test gaugings on
+// two rating periods.
+func shiftsArgs(extra ...string) []string {
+	args := []string{"shifts", recGaugings, "--rating", recRatingA, "--rating", recRatingB + "@2024-05-02T00:00", "--zero-flow", "0.2"}
+	return append(args, extra...)
+}
+
+func TestShiftsGolden(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"shifts.txt", shiftsArgs()},
+		{"shifts-applied.txt", shiftsArgs("--shifts", recShifts, "--utc-offset", "-05:00")},
+		{"shifts.csv", shiftsArgs("--format", "csv")},
+		{"shifts.json", shiftsArgs("--shifts", recShifts, "--format", "json")},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			golden(t, filepath.Join("record", "golden", tc.name), out)
+		})
+	}
+}
+
+// TestShiftsJSONKeys: the check's JSON keys come in their documented
+// order, and so do a gauging's.
+func TestShiftsJSONKeys(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, shiftsArgs("--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if got := strings.Join(jsonKeys(t, []byte(out)), ","); got != "units,gaugings,visits,ratings,shifts,warnings,caution" {
+		t.Errorf("keys %s", got)
+	}
+	if got := jsonKeys(t, firstOf(t, []byte(out), "gaugings")); strings.Join(got, ",") != strings.Join(results.ShiftGaugingColumns(), ",") {
+		t.Errorf("gauging keys %q", got)
+	}
+	if got := strings.Join(jsonKeys(t, firstOf(t, []byte(out), "visits")), ","); got != "visit,time,gaugings,proposal" {
+		t.Errorf("visit keys %s", got)
+	}
+}
+
+// TestShiftsProposedRoundTrip: the proposed diagrams are written in the
+// shift-diagram format; given back with --shifts, every gauging whose
+// visit proposed a diagram is matched by the shifted rating (its residual
+// is zero to the four decimals written).
+func TestShiftsProposedRoundTrip(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	proposed := filepath.Join(dir, "proposed.csv")
+	_, errs, code := runCLI(t, shiftsArgs("--proposed", proposed, "-o", filepath.Join(dir, "check.txt"))...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(errs, "wrote "+proposed) {
+		t.Errorf("stderr %q", errs)
+	}
+	data, err := os.ReadFile(proposed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(data), "\ntime,stage,shift,taper,abrupt\n") || !strings.HasPrefix(string(data), "# ") {
+		t.Errorf("proposed file:\n%s", data)
+	}
+	out, errs, code := runCLI(t, shiftsArgs("--shifts", proposed, "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Gaugings []struct {
+			Residual *float64 `json:"residual_shift"`
+			Source   string
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	const writtenTol = 5e-5 // shifts are written to four decimals
+	for _, g := range doc.Gaugings {
+		if g.Residual == nil || *g.Residual > writtenTol || *g.Residual < -writtenTol {
+			t.Errorf("%s: residual %v after applying its own proposal", g.Source, g.Residual)
+		}
+	}
+}
+
+// TestShiftsFiles: a workbook whose proposed-shifts sheet reads back as
+// shift diagrams, and two figures of the default size.
+func TestShiftsFiles(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	book := filepath.Join(dir, "check.xlsx")
+	plots := filepath.Join(dir, "plots")
+	_, errs, code := runCLI(t, shiftsArgs("-o", book, "--plots", plots)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	decodeAll(t, plots, []string{"gaugings-shift-stage.png", "gaugings-shift-time.png"}, plotting.DefaultWidth, plotting.DefaultHeight)
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	want := []string{results.SheetSummary, results.SheetGaugings, results.SheetProposals, results.SheetRatings, results.SheetPlots}
+	if got := f.GetSheetList(); strings.Join(got, "|") != strings.Join(want, "|") {
+		t.Errorf("sheets %q, want %q", got, want)
+	}
+	if _, errs, code := runCLI(t, shiftsArgs("--shifts", book, "--shifts-sheet", results.SheetProposals)...); code != 0 {
+		t.Errorf("proposed shifts sheet does not read back: exit %d: %s", code, errs)
+	}
+}
+
+func TestShiftsRefusals(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for _, c := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"proposed not csv", shiftsArgs("--proposed", filepath.Join(dir, "p.txt")), 2, "name the file .csv"},
+		{"proposed is output", shiftsArgs("--proposed", filepath.Join(dir, "p.csv"), "-o", filepath.Join(dir, "p.csv")), 2, "same file"},
+		{"no gaugings", []string{"shifts", "--rating", recRatingA}, 2, "one GAUGINGS file"},
+		{"negative visit gap", shiftsArgs("--visit-gap", "-1h"), 2, "--visit-gap"},
+		{"valid_from and @", []string{"shifts", recGaugings, "--rating", "testdata/record/periods.csv@2024-05-01"}, 2, "valid_from"},
+		{"proposed over an input", shiftsArgs("--proposed", recRatingA), 1, "refusing to write over an input"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, errs, code := runCLI(t, c.args...)
+			if code != c.code || !strings.Contains(errs, c.want) {
+				t.Errorf("exit %d, want %d; stderr %q should hold %q", code, c.code, errs, c.want)
+			}
+		})
+	}
+	if _, err := os.Stat(filepath.Join(dir, "p.csv")); err == nil {
+		t.Error("a refused run wrote its proposals")
+	}
+}

@@ -1,0 +1,260 @@
+package plotting
+
+import (
+	"fmt"
+	"image/color"
+	"io"
+	"math"
+	"sort"
+	"time"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+)
+
+// DrawShifts draws the figures of a shift check: each gauging's measured
+// shift against time and against stage, by quality, those outside their
+// quality band on the base rating circled, with the shift the diagrams
+// apply at each gauging (time figure) and every applied and proposed
+// diagram as a line (stage figure). site titles them; base starts their
+// file names.
+func DrawShifts(c *gauged.ShiftCheck, site, base string, size Size) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	for _, f := range []struct {
+		kind, caption string
+		draw          func(io.Writer, *gauged.ShiftCheck, string, Size) (Result, error)
+	}{
+		{"shift-time", "measured shifts against time, with the shifts the diagrams apply and the rating periods", shiftTimeFigure},
+		{"shift-stage", "measured shifts against stage, with the applied and proposed shift diagrams", shiftStageFigure},
+	} {
+		if err := set.add(f.kind, f.caption, func(w io.Writer) (Result, error) { return f.draw(w, c, site, size) }); err != nil {
+			return nil, nil, err
+		}
+	}
+	return set.figs, set.warnings, nil
+}
+
+// shiftFigure is the page of a shift figure.
+func shiftFigure(c *gauged.ShiftCheck, site, what string) figure {
+	measured := 0
+	for _, g := range c.Gaugings {
+		if finite(g.Shift) {
+			measured++
+		}
+	}
+	return figure{
+		title: titleOf(site, "", what),
+		subtitle: fmt.Sprintf("%d of %d gaugings with a measured shift, %d visits; shift = what is added to the gauge height for the rating to pass through the gauging",
+			measured, len(c.Gaugings), len(c.Visits)),
+		foot:      []string{DefaultCaution},
+		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+	}
+}
+
+// shiftTimeFigure draws measured and applied shifts against time.
+func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) (Result, error) {
+	var res Result
+	un := names(c.Units)
+	z := time.UTC
+	if c.UTCOffset != 0 {
+		z = time.FixedZone(offsetName(c.UTCOffset), int(c.UTCOffset/time.Second))
+	}
+	p := newPanel("Shift against time", "Time ("+zoneName(z)+")", "Shift, "+un.length)
+	addGrid(p)
+	p.Add(zeroLine{})
+	var pts []gaugingPoint
+	var outside, applied plotter.XYs
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, g := range c.Gaugings {
+		t := float64(g.Time.Unix())
+		lo, hi = math.Min(lo, t), math.Max(hi, t)
+		if !finite(g.Shift) {
+			continue
+		}
+		pts = append(pts, gaugingPoint{t, g.Shift, g.Quality})
+		if g.Outside {
+			outside = append(outside, plotter.XY{X: t, Y: g.Shift})
+		}
+		if len(c.History.Shifts) > 0 && finite(g.Applied) {
+			applied = append(applied, plotter.XY{X: t, Y: g.Applied})
+		}
+	}
+	if len(pts) == 0 {
+		return res, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+	}
+	if len(applied) > 0 {
+		sort.Slice(applied, func(i, j int) bool { return applied[i].X < applied[j].X })
+		l, s, err := plotter.NewLinePoints(applied)
+		if err == nil {
+			l.LineStyle = lineStyle(colWater, 1.2, vg.Points(4), vg.Points(2))
+			s.GlyphStyle = draw.GlyphStyle{Color: colWater, Radius: vg.Points(2.2), Shape: draw.BoxGlyph{}}
+			p.Add(l, s)
+			p.Legend.Add("shift applied by the diagrams at the gauging", l, s)
+		}
+	}
+	addGaugingPoints(p, pts, true)
+	ringPoints(p, outside, "outside its band on the base rating")
+	froms, ns := periodStarts(c.History.Periods)
+	periodLines(p, froms, ns, z, true)
+	if hi > lo {
+		pad := (hi - lo) * 0.03
+		p.X.Min, p.X.Max = lo-pad, hi+pad
+	} else {
+		p.X.Min, p.X.Max = lo-86400, hi+86400
+	}
+	padAxis(&p.Y, shiftPad)
+	p.X.Tick.Marker = timeTicks{z}
+	p.Y.Tick.Marker = linearTicks{}
+	p.Legend.Top = true
+	err := render(w, size, shiftFigure(c, site, "shifts against time"), func(cv draw.Canvas) error {
+		p.Draw(cv)
+		return nil
+	})
+	return res, err
+}
+
+// offsetName names a fixed offset as ISO 8601 writes it.
+func offsetName(off time.Duration) string {
+	s := int(off / time.Second)
+	sign := "+"
+	if s < 0 {
+		sign, s = "-", -s
+	}
+	return fmt.Sprintf("UTC%s%02d:%02d", sign, s/3600, s/60%60)
+}
+
+// diagramLine lays a diagram out as points (shift, stage) over stages lo
+// to hi: its points and taper, and its constant ends.
+func diagramLine(d gauged.ShiftDiagram, lo, hi float64) plotter.XYs {
+	hs := []float64{lo, hi}
+	for _, p := range d.Points {
+		if finite(p.Stage) && p.Stage > lo && p.Stage < hi {
+			hs = append(hs, p.Stage)
+		}
+	}
+	if d.HasTaper && d.Taper > lo && d.Taper < hi {
+		hs = append(hs, d.Taper)
+	}
+	sort.Float64s(hs)
+	xy := make(plotter.XYs, 0, len(hs))
+	for _, h := range hs {
+		xy = append(xy, plotter.XY{X: d.At(h), Y: h})
+	}
+	return xy
+}
+
+// shiftStageFigure draws measured shifts against stage with the diagrams.
+func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) (Result, error) {
+	var res Result
+	un := names(c.Units)
+	p := newPanel("Shift against stage", "Shift, "+un.length, "Gauge height, "+un.length)
+	addGrid(p)
+	p.Add(zeroLine{vertical: true})
+	var pts []gaugingPoint
+	var outside plotter.XYs
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, g := range c.Gaugings {
+		if !finite(g.Shift, g.Stage) {
+			continue
+		}
+		lo, hi = math.Min(lo, g.Stage), math.Max(hi, g.Stage)
+		pts = append(pts, gaugingPoint{g.Shift, g.Stage, g.Quality})
+		if g.Outside {
+			outside = append(outside, plotter.XY{X: g.Shift, Y: g.Stage})
+		}
+	}
+	if len(pts) == 0 {
+		return res, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+	}
+	for _, d := range c.History.Shifts {
+		for _, q := range d.Points {
+			if finite(q.Stage) {
+				lo, hi = math.Min(lo, q.Stage), math.Max(hi, q.Stage)
+			}
+		}
+	}
+	pad := math.Max((hi-lo)*0.1, 0.05)
+	lo, hi = lo-pad, hi+pad
+	lines := []struct {
+		ds    []gauged.ShiftDiagram
+		label string
+		style draw.LineStyle
+	}{
+		{c.History.Shifts, "applied shift diagram", lineStyle(colWater, 1.4)},
+		{proposals(c), "proposed diagram (one per visit)", lineStyle(colFitted, 1.2, vg.Points(5), vg.Points(3))},
+	}
+	for k, set := range lines {
+		for i, d := range set.ds {
+			a, b := lo, hi
+			if k == 1 { // a proposal is drawn over the stages of its gaugings only
+				a, b = proposalSpan(d, (hi-lo)*proposalReach)
+			}
+			l, err := plotter.NewLine(diagramLine(d, a, b))
+			if err != nil {
+				continue
+			}
+			l.LineStyle = set.style
+			p.Add(l)
+			if i == 0 {
+				p.Legend.Add(set.label, l)
+			}
+		}
+	}
+	addGaugingPoints(p, pts, true)
+	ringPoints(p, outside, "outside its band on the base rating")
+	p.Y.Min, p.Y.Max = lo, hi
+	padAxis(&p.X, shiftPad)
+	p.X.Tick.Marker = linearTicks{}
+	p.Y.Tick.Marker = linearTicks{}
+	p.Legend.Top, p.Legend.Left = true, true
+	p.Legend.XOffs = vg.Points(8)
+	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
+		p.Draw(cv)
+		return nil
+	})
+	return res, err
+}
+
+// shiftPad widens a shift axis beyond its data, as a fraction of the
+// range, and proposalReach is how far beyond its gaugings a proposed
+// diagram is drawn, as a fraction of the stage range.
+const (
+	shiftPad      = 0.08
+	proposalReach = 0.04
+)
+
+// padAxis widens an axis by a fraction of its range on each side (by a
+// little when the range is empty).
+func padAxis(ax *plot.Axis, f float64) {
+	d := (ax.Max - ax.Min) * f
+	if !(d > 0) {
+		d = math.Max(math.Abs(ax.Max), 1) * f
+	}
+	ax.Min, ax.Max = ax.Min-d, ax.Max+d
+}
+
+// proposalSpan is the stage span of a proposed diagram's points, widened
+// by reach.
+func proposalSpan(d gauged.ShiftDiagram, reach float64) (float64, float64) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, p := range d.Points {
+		lo, hi = math.Min(lo, p.Stage), math.Max(hi, p.Stage)
+	}
+	return lo - reach, hi + reach
+}
+
+// proposals returns the visits' proposed diagrams.
+func proposals(c *gauged.ShiftCheck) []gauged.ShiftDiagram {
+	var out []gauged.ShiftDiagram
+	for _, v := range c.Visits {
+		if len(v.Proposal.Points) > 0 {
+			out = append(out, v.Proposal)
+		}
+	}
+	return out
+}

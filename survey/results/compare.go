@@ -1,0 +1,324 @@
+package results
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/survey/workbook"
+)
+
+// Sheet name of the rows of a comparison workbook.
+const SheetComparison = "comparison"
+
+// RatingComparisonColumns returns the columns of a comparison of two
+// ratings as CSV, in order. They are a contract with scripts; add columns
+// after them.
+func RatingComparisonColumns() []string {
+	return []string{"stage", "discharge_a", "discharge_b", "difference", "percent_difference"}
+}
+
+// SectionComparisonColumns returns the columns of a comparison of two
+// surveys as CSV, in order. They are a contract with scripts; add columns
+// after them.
+func SectionComparisonColumns() []string {
+	return []string{"stage",
+		"area_a", "area_b", "area_difference",
+		"wetted_perimeter_a", "wetted_perimeter_b", "wetted_perimeter_difference",
+		"top_width_a", "top_width_b", "top_width_difference",
+		"conveyance_a", "conveyance_b", "conveyance_difference", "conveyance_percent_difference"}
+}
+
+// WriteRatingComparisonCSV writes two ratings side by side
+// (RatingComparisonColumns()): at every stage of their common range each
+// discharge, B − A and 100·(B − A)/A. Undefined values are empty cells.
+func WriteRatingComparisonCSV(w io.Writer, c *gauged.RatingComparison) error {
+	bw := bufio.NewWriter(w)
+	writeRecord(bw, RatingComparisonColumns())
+	for _, r := range c.Rows {
+		writeRecord(bw, []string{FormatLength(r.Stage), FormatFloat(r.A), FormatFloat(r.B), FormatFloat(r.Difference), FormatFloat(r.Percent)})
+	}
+	return bw.Flush()
+}
+
+type jsonRatingDifference struct {
+	Stage      Float `json:"stage"`
+	A          Float `json:"discharge_a"`
+	B          Float `json:"discharge_b"`
+	Difference Float `json:"difference"`
+	Percent    Float `json:"percent_difference"`
+}
+
+// WriteRatingComparisonJSON writes a comparison of two ratings as one JSON
+// object:
+//
+//	{"kind": "ratings", "a", "b", "units", "from", "to", "max_percent",
+//	 "max_stage", "rows": [{"stage", "discharge_a", "discharge_b",
+//	 "difference", "percent_difference"}], "ratings", "warnings", "caution"}
+//
+// ratings describes the two tables (as the record's JSON does, periods 1
+// and 2 standing for A and B). Undefined values are null.
+func WriteRatingComparisonJSON(w io.Writer, c *gauged.RatingComparison) error {
+	out := struct {
+		Kind       string                 `json:"kind"`
+		A          string                 `json:"a"`
+		B          string                 `json:"b"`
+		Units      map[string]string      `json:"units"`
+		From       Float                  `json:"from"`
+		To         Float                  `json:"to"`
+		MaxPercent Float                  `json:"max_percent"`
+		MaxStage   Float                  `json:"max_stage"`
+		Rows       []jsonRatingDifference `json:"rows"`
+		Ratings    []jsonPeriod           `json:"ratings"`
+		Warnings   []string               `json:"warnings"`
+		Caution    string                 `json:"caution"`
+	}{Kind: "ratings", A: c.A, B: c.B, Units: UnitNames(c.Units), From: Float(c.From), To: Float(c.To),
+		MaxPercent: Float(c.MaxPercent), MaxStage: Float(c.MaxStage), Rows: []jsonRatingDifference{},
+		Warnings: nonNil(c.Warnings), Caution: rating.Caution}
+	for _, r := range c.Rows {
+		out.Rows = append(out.Rows, jsonRatingDifference{Float(r.Stage), Float(r.A), Float(r.B), Float(r.Difference), Float(r.Percent)})
+	}
+	out.Ratings = jsonPeriods(comparedTables(c), nil)
+	return writeJSON(w, out)
+}
+
+// comparedTables lays out the two tables of a comparison as periods, for
+// the writers that describe ratings.
+func comparedTables(c *gauged.RatingComparison) []periodInfo {
+	a, b := c.TableA, c.TableB
+	return []periodInfo{{rating: &a, readings: -1}, {rating: &b, readings: -1}}
+}
+
+// WriteRatingComparisonText writes a comparison of two ratings for
+// reading: both ratings, the common range, the largest difference, every
+// row, the warnings and the caution.
+func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
+	bw := bufio.NewWriter(w)
+	u := c.Units
+	L, Q := u.Length(), u.Discharge()
+	fmt.Fprintf(bw, "Two ratings compared: A = %s, B = %s (%s units)\n", c.A, c.B, u)
+	ts := comparedTables(c)
+	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
+	fmt.Fprintf(bw, "Common range of stage: %s to %s %s (neither table is extrapolated)\n", FormatLength(c.From), FormatLength(c.To), L)
+	fmt.Fprintf(bw, "Largest difference: %s %% at %s %s\n", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage), L)
+	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s\n", "stage", "A", "B", "B − A", "% diff.")
+	fmt.Fprintf(bw, "  %9s %12s %12s %12s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")")
+	for _, r := range c.Rows {
+		fmt.Fprintf(bw, "  %9.3f %12s %12s %12s %9s\n", r.Stage, sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2))
+	}
+	writeTextEnd(bw, c.Warnings)
+	return bw.Flush()
+}
+
+// writeTextEnd writes the warnings and the caution at the end of a text
+// report.
+func writeTextEnd(bw *bufio.Writer, warnings []string) {
+	if len(warnings) > 0 {
+		bw.WriteString("\n")
+		for _, s := range warnings {
+			fmt.Fprintf(bw, "warning: %s\n", s)
+		}
+	}
+	fmt.Fprintf(bw, "\ncaution: %s\n", rating.Caution)
+}
+
+// WriteRatingComparisonWorkbook writes a comparison of two ratings as a
+// workbook: summary (both ratings, the range, the largest difference,
+// warnings, caution), comparison (RatingComparisonColumns() with units)
+// and plots.
+func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) error {
+	b := newBook("wetline compare: " + c.A + " and " + c.B)
+	defer b.Close()
+	u := c.Units
+	L, Q := u.Length(), u.Discharge()
+	ts := comparedTables(c)
+	items := []SummaryItem{
+		{"rating A", ratingWords(ts[0].rating, u), ""},
+		{"rating B", ratingWords(ts[1].rating, u), ""},
+		{"read from", joinInputs(c.Provenance.Inputs), ""},
+		{"program", programName(c.Provenance), ""},
+		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
+		{"common range of stage", fmt.Sprintf("%s to %s (neither table extrapolated)", FormatLength(c.From), FormatLength(c.To)), L},
+		{"largest difference", fmt.Sprintf("%s %% at %s", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage)), L},
+	}
+	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
+		return err
+	}
+	s, err := b.Table(SheetComparison, []workbook.Column{
+		{Name: "stage", Unit: L, Format: "0.000"},
+		{Name: "discharge_a", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "discharge_b", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "difference", Unit: Q, Format: workbook.FormatSig3},
+		{Name: "percent_difference", Unit: "%", Format: "0.00"},
+	})
+	if err != nil {
+		return err
+	}
+	for _, r := range c.Rows {
+		if err := s.Row(r.Stage, r.A, r.B, r.Difference, r.Percent); err != nil {
+			return err
+		}
+	}
+	if err := s.Flush(); err != nil {
+		return err
+	}
+	if len(c.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// sectionValues are the cells of a section comparison row, in the order
+// of SectionComparisonColumns().
+func sectionValues(r rating.SectionDifference) []float64 {
+	return []float64{r.Stage,
+		r.A.Area, r.B.Area, r.Difference.Area,
+		r.A.WettedPerimeter, r.B.WettedPerimeter, r.Difference.WettedPerimeter,
+		r.A.TopWidth, r.B.TopWidth, r.Difference.TopWidth,
+		r.A.Conveyance, r.B.Conveyance, r.Difference.Conveyance, r.ConveyancePercent}
+}
+
+// WriteSectionComparisonCSV writes two surveys side by side
+// (SectionComparisonColumns()): at each stage the area, wetted perimeter,
+// top width and conveyance of each, B − A of each and the conveyance's
+// percent difference. Undefined values are empty cells.
+func WriteSectionComparisonCSV(w io.Writer, c *rating.SectionComparison) error {
+	bw := bufio.NewWriter(w)
+	writeRecord(bw, SectionComparisonColumns())
+	rec := make([]string, 0, len(SectionComparisonColumns()))
+	for _, r := range c.Rows {
+		rec = rec[:0]
+		for i, v := range sectionValues(r) {
+			if i == 0 || i >= 4 && i <= 9 {
+				rec = append(rec, FormatLength(v))
+			} else {
+				rec = append(rec, FormatFloat(v))
+			}
+		}
+		writeRecord(bw, rec)
+	}
+	return bw.Flush()
+}
+
+type jsonGeometry struct {
+	Area            Float `json:"area"`
+	WettedPerimeter Float `json:"wetted_perimeter"`
+	TopWidth        Float `json:"top_width"`
+	Conveyance      Float `json:"conveyance"`
+}
+
+type jsonSectionDifference struct {
+	Stage             Float        `json:"stage"`
+	A                 jsonGeometry `json:"a"`
+	B                 jsonGeometry `json:"b"`
+	Difference        jsonGeometry `json:"difference"`
+	ConveyancePercent Float        `json:"conveyance_percent_difference"`
+}
+
+func geometryJSON(g rating.SectionGeometry) jsonGeometry {
+	return jsonGeometry{Float(g.Area), Float(g.WettedPerimeter), Float(g.TopWidth), Float(g.Conveyance)}
+}
+
+// WriteSectionComparisonJSON writes a comparison of two surveys as one
+// JSON object:
+//
+//	{"kind": "sections", "a", "b", "units", "rows": [{"stage",
+//	 "a": {"area", "wetted_perimeter", "top_width", "conveyance"}, "b": {...},
+//	 "difference": {...}, "conveyance_percent_difference"}], "warnings", "caution"}
+//
+// Undefined values are null.
+func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error {
+	out := struct {
+		Kind     string                  `json:"kind"`
+		A        string                  `json:"a"`
+		B        string                  `json:"b"`
+		Units    map[string]string       `json:"units"`
+		Rows     []jsonSectionDifference `json:"rows"`
+		Warnings []string                `json:"warnings"`
+		Caution  string                  `json:"caution"`
+	}{Kind: "sections", A: c.A, B: c.B, Units: UnitNames(c.Units), Rows: []jsonSectionDifference{}, Warnings: nonNil(c.Warnings), Caution: rating.Caution}
+	for _, r := range c.Rows {
+		out.Rows = append(out.Rows, jsonSectionDifference{Float(r.Stage), geometryJSON(r.A), geometryJSON(r.B), geometryJSON(r.Difference), Float(r.ConveyancePercent)})
+	}
+	return writeJSON(w, out)
+}
+
+// WriteSectionComparisonText writes a comparison of two surveys for
+// reading: at each stage both surveys' area and conveyance, the
+// differences of all four properties, the warnings and the caution.
+func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error {
+	bw := bufio.NewWriter(w)
+	u := c.Units
+	L, A := u.Length(), u.Area()
+	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; both in one datum)\n", c.A, c.B, u)
+	fmt.Fprintf(bw, "Differences are B − A: a larger area or conveyance in B is scour (or a lower control), a smaller one fill.\n")
+	fmt.Fprintf(bw, "\n  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "stage", "area A", "area B", "Δ area", "Δ perim.", "Δ width", "conv. A", "conv. B", "Δ conv. %")
+	fmt.Fprintf(bw, "  %9s %10s %10s %10s %9s %9s %12s %12s\n", "("+L+")", "("+A+")", "("+A+")", "("+A+")", "("+L+")", "("+L+")", "("+u.Conveyance()+")", "("+u.Conveyance()+")")
+	for _, r := range c.Rows {
+		fmt.Fprintf(bw, "  %9.3f %10s %10s %10s %9s %9s %12s %12s %9s\n", r.Stage, sig(r.A.Area, 5), sig(r.B.Area, 5), sig(r.Difference.Area, 4),
+			fixed(r.Difference.WettedPerimeter, 2), fixed(r.Difference.TopWidth, 2), sig(r.A.Conveyance, 5), sig(r.B.Conveyance, 5), fixed(r.ConveyancePercent, 2))
+	}
+	writeTextEnd(bw, c.Warnings)
+	return bw.Flush()
+}
+
+// WriteSectionComparisonWorkbook writes a comparison of two surveys as a
+// workbook: summary, comparison (SectionComparisonColumns() with units)
+// and plots.
+func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) error {
+	b := newBook("wetline compare: " + c.A + " and " + c.B)
+	defer b.Close()
+	u := c.Units
+	L, A, K := u.Length(), u.Area(), u.Conveyance()
+	items := []SummaryItem{
+		{"survey A", c.A, ""},
+		{"survey B", c.B, ""},
+		{"read from", joinInputs(c.Provenance.Inputs), ""},
+		{"program", programName(c.Provenance), ""},
+		{"units", fmt.Sprintf("%s: stage in %s, area in %s, conveyance in %s", u, L, A, K), ""},
+		{"method", "area, wetted perimeter, top width and Manning conveyance of each survey at each stage (Chow, 1959); differences B − A", ""},
+	}
+	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
+		return err
+	}
+	units := []string{L, A, A, A, L, L, L, L, L, L, K, K, K, "%"}
+	formats := []string{"0.000", workbook.FormatSig3, workbook.FormatSig3, workbook.FormatSig3, "0.00", "0.00", "0.00", "0.00", "0.00", "0.00",
+		workbook.FormatSig3, workbook.FormatSig3, workbook.FormatSig3, "0.00"}
+	var cols []workbook.Column
+	for i, n := range SectionComparisonColumns() {
+		cols = append(cols, workbook.Column{Name: n, Unit: units[i], Format: formats[i]})
+	}
+	s, err := b.Table(SheetComparison, cols)
+	if err != nil {
+		return err
+	}
+	vals := make([]any, len(cols))
+	for _, r := range c.Rows {
+		for i, v := range sectionValues(r) {
+			vals[i] = v
+		}
+		if err := s.Row(vals...); err != nil {
+			return err
+		}
+	}
+	if err := s.Flush(); err != nil {
+		return err
+	}
+	if len(c.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// WriteComparisonSummary says that a comparison was written to path.
+func WriteComparisonSummary(w io.Writer, what string, rows int, warnings []string, path string) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "wrote %s: %s, %d stages\n", path, what, rows)
+	return endSummary(bw, warnings)
+}

@@ -1,0 +1,304 @@
+package results
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"strings"
+	"time"
+
+	"wetline/rating"
+	"wetline/rating/gauged"
+	"wetline/rating/record"
+	"wetline/survey/workbook"
+)
+
+// ShiftGaugingColumns returns the columns of a shift check as CSV, one row
+// per gauging, in order. They are a contract with scripts; add columns
+// after them.
+func ShiftGaugingColumns() []string {
+	return []string{"time", "stage", "discharge", "quality", "rating_period", "rated", "departure_percent", "outside_band",
+		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source"}
+}
+
+// shiftInfoOf lays out a check's periods and diagrams.
+func shiftInfoOf(c *gauged.ShiftCheck) ([]periodInfo, []shiftInfo) {
+	return historyPeriods(c.History), historyShifts(c.History, c.ShiftPeriods)
+}
+
+// WriteShiftsCSV writes a shift check, one row per gauging in input order
+// (ShiftGaugingColumns()): the rating period in force (1-based), the base
+// rating's discharge at the gauge height, the departure from it and
+// whether it lies outside the gauging's quality band; the measured shift,
+// the shift the diagrams apply and the residual between them; the
+// discharge of the shifted rating and the departure from it; the visit
+// (1-based). Times are ISO 8601 with the check's offset; undefined values
+// are empty cells.
+func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
+	bw := bufio.NewWriter(w)
+	z := zoneOf(c.UTCOffset)
+	visit := visitOf(c)
+	writeRecord(bw, ShiftGaugingColumns())
+	for i, g := range c.Gaugings {
+		period := ""
+		if g.Period >= 0 {
+			period = fmt.Sprint(g.Period + 1)
+		}
+		writeRecord(bw, []string{g.Time.In(z).Format(RecordTimeLayout), FormatLength(g.Stage), FormatFloat(g.Discharge), g.Quality.String(),
+			period, FormatFloat(g.Rated), FormatFloat(g.Departure), fmt.Sprint(g.Outside),
+			FormatLength(g.Shift), FormatLength(g.Applied), FormatLength(g.Residual),
+			FormatFloat(g.Shifted), FormatFloat(g.ShiftedDeparture), fmt.Sprint(g.OutsideShifted), fmt.Sprint(visit[i] + 1), fitCSVText(g.Source)})
+	}
+	return bw.Flush()
+}
+
+// WriteProposedShifts writes the diagram each visit proposes as a shift
+// table (survey.ShiftColumns(): time, stage, shift, taper, abrupt), after
+// comment lines saying where it came from, so that the user can edit it
+// (add a taper, mark a diagram abrupt, drop one) and read it back as shift
+// diagrams. Visits that propose no diagram are left out.
+func WriteProposedShifts(w io.Writer, c *gauged.ShiftCheck) error {
+	bw := bufio.NewWriter(w)
+	z := zoneOf(c.UTCOffset)
+	fmt.Fprintf(bw, "# Proposed shift diagrams, one per field visit, through the visit's measured shifts (%s).\n", programName(c.Provenance))
+	if len(c.Provenance.Inputs) > 0 {
+		fmt.Fprintf(bw, "# Measured against: %s.\n", joinInputs(c.Provenance.Inputs))
+	}
+	fmt.Fprintf(bw, "# Shifts in %s, added to the gauge height. Edit before use: a taper stage, abrupt=yes after a flood that changed the control.\n", c.Units.Length())
+	fmt.Fprintf(bw, "# %s\n", recordCaution(record.ProvisionalNote))
+	var ds []gauged.ShiftDiagram
+	for _, v := range c.Visits {
+		if len(v.Proposal.Points) > 0 {
+			ds = append(ds, v.Proposal)
+		}
+	}
+	writeShiftRows(bw, ds, z)
+	return bw.Flush()
+}
+
+type jsonShiftGauging struct {
+	Time             string `json:"time"`
+	Stage            Float  `json:"stage"`
+	Discharge        Float  `json:"discharge"`
+	Quality          string `json:"quality"`
+	RatingPeriod     *int   `json:"rating_period"`
+	Rated            Float  `json:"rated"`
+	Departure        Float  `json:"departure_percent"`
+	Outside          bool   `json:"outside_band"`
+	Shift            Float  `json:"shift"`
+	Applied          Float  `json:"applied_shift"`
+	Residual         Float  `json:"residual_shift"`
+	Shifted          Float  `json:"shifted"`
+	ShiftedDeparture Float  `json:"shifted_departure_percent"`
+	OutsideShifted   bool   `json:"outside_band_shifted"`
+	Visit            int    `json:"visit"`
+	Source           string `json:"source"`
+}
+
+type jsonVisit struct {
+	Visit    int              `json:"visit"`
+	Time     string           `json:"time"`
+	Gaugings []string         `json:"gaugings"`
+	Proposal []jsonShiftPoint `json:"proposal"`
+}
+
+// WriteShiftsJSON writes a shift check as one JSON object:
+//
+//	{"units", "gaugings": [{"time", "stage", "discharge", "quality",
+//	  "rating_period", "rated", "departure_percent", "outside_band", "shift",
+//	  "applied_shift", "residual_shift", "shifted", "shifted_departure_percent",
+//	  "outside_band_shifted", "visit", "source"}],
+//	 "visits": [{"visit", "time", "gaugings", "proposal": [{"stage", "shift"}]}],
+//	 "ratings", "shifts", "warnings", "caution"}
+//
+// ratings and shifts state the rating periods and the diagrams applied, as
+// the record's JSON does; a visit's gaugings are the sources of its
+// gaugings and its proposal is empty when it proposes no diagram.
+// Undefined values are null.
+func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
+	z := zoneOf(c.UTCOffset)
+	visit := visitOf(c)
+	out := struct {
+		Units    map[string]string  `json:"units"`
+		Gaugings []jsonShiftGauging `json:"gaugings"`
+		Visits   []jsonVisit        `json:"visits"`
+		Ratings  []jsonPeriod       `json:"ratings"`
+		Shifts   []jsonShift        `json:"shifts"`
+		Warnings []string           `json:"warnings"`
+		Caution  string             `json:"caution"`
+	}{Units: UnitNames(c.Units), Gaugings: []jsonShiftGauging{}, Visits: []jsonVisit{}, Warnings: nonNil(c.Warnings), Caution: recordCaution(record.ProvisionalNote)}
+	for i, g := range c.Gaugings {
+		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
+			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
+			Residual: Float(g.Residual), Shifted: Float(g.Shifted), ShiftedDeparture: Float(g.ShiftedDeparture), OutsideShifted: g.OutsideShifted,
+			Visit: visit[i] + 1, Source: g.Source}
+		if g.Period >= 0 {
+			p := g.Period + 1
+			jg.RatingPeriod = &p
+		}
+		out.Gaugings = append(out.Gaugings, jg)
+	}
+	for k, v := range c.Visits {
+		jv := jsonVisit{Visit: k + 1, Time: v.Time.In(z).Format(RecordTimeLayout), Gaugings: []string{}, Proposal: []jsonShiftPoint{}}
+		for _, i := range v.Gaugings {
+			jv.Gaugings = append(jv.Gaugings, c.Gaugings[i].Source)
+		}
+		for _, p := range v.Proposal.Points {
+			jv.Proposal = append(jv.Proposal, jsonShiftPoint{Float(p.Stage), Float(p.Shift)})
+		}
+		out.Visits = append(out.Visits, jv)
+	}
+	ps, ss := shiftInfoOf(c)
+	out.Ratings, out.Shifts = jsonPeriods(ps, z), jsonShifts(ss, z)
+	return writeJSON(w, out)
+}
+
+// WriteShiftsText writes a shift check for reading: the ratings and
+// diagrams it was measured against, every gauging's departure and shifts,
+// each visit's proposed diagram, the warnings, the caution and the
+// provisional note.
+func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
+	bw := bufio.NewWriter(w)
+	z := zoneOf(c.UTCOffset)
+	u := c.Units
+	fmt.Fprintf(bw, "Gaugings against the ratings in force: %d measurements; %s units (gauge heights and shifts in %s, discharge in %s); times in %s\n",
+		len(c.Gaugings), u, u.Length(), u.Discharge(), zoneName(z))
+	if len(c.Provenance.Inputs) > 0 {
+		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(c.Provenance.Inputs), programName(c.Provenance))
+	}
+	ps, ss := shiftInfoOf(c)
+	writeHistoryText(bw, ps, ss, z, u)
+	fmt.Fprintf(bw, "\nGaugings (departure = 100·(measured − rated)/rated on the base rating; shift = what to add to the gauge height for the rating to pass through the gauging;\n")
+	fmt.Fprintf(bw, "applied = the shift the diagrams give there; residual = shift − applied; * outside the gauging's quality band):\n")
+	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %3s %10s %7s %8s %8s %8s %8s\n", "time", "stage", "discharge", "quality", "per", "rated", "dep. %", "shift", "applied", "residual", "shifted%")
+	for _, g := range c.Gaugings {
+		period := "-"
+		if g.Period >= 0 {
+			period = fmt.Sprint(g.Period + 1)
+		}
+		line := fmt.Sprintf("  %-25s %8s %10s %-9s %3s %10s %6s%s %8s %8s %8s %7s%s", g.Time.In(z).Format(RecordTimeLayout), fixed(g.Stage, 3),
+			sig(g.Discharge, 4), g.Quality, period, sig(g.Rated, 4), fixed(g.Departure, 1), fitStar(g.Outside),
+			fixed(g.Shift, 3), fixed(g.Applied, 3), fixed(g.Residual, 3), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted))
+		bw.WriteString(strings.TrimRight(line, " ") + "\n")
+	}
+	fmt.Fprintf(bw, "\nField visits and the shift diagram each proposes (through its measured shifts; write them with --proposed FILE, edit, and apply them with --shifts FILE):\n")
+	for k, v := range c.Visits {
+		fmt.Fprintf(bw, "  visit %d, %s, %d gauging(s): ", k+1, v.Time.In(z).Format(RecordTimeLayout), len(v.Gaugings))
+		if len(v.Proposal.Points) == 0 {
+			fmt.Fprintln(bw, "no diagram proposed")
+			continue
+		}
+		fmt.Fprintln(bw, shiftWords(v.Proposal, u))
+	}
+	if len(c.Warnings) > 0 {
+		bw.WriteString("\n")
+		for _, s := range c.Warnings {
+			fmt.Fprintf(bw, "warning: %s\n", s)
+		}
+	}
+	fmt.Fprintf(bw, "\ncaution: %s\nprovisional: %s\n", rating.Caution, record.ProvisionalNote)
+	return bw.Flush()
+}
+
+// WriteShiftsWorkbook writes the results workbook of a shift check to w.
+// Sheets:
+//
+//   - summary: the files read, program, units, zone, every rating period
+//     and diagram applied, the counts of gaugings outside their bands, the
+//     warnings and the caution;
+//   - gaugings: each gauging against the rating in force, with its
+//     shifts (ShiftGaugingColumns() with units);
+//   - proposed shifts: each visit's proposed diagram in the columns of a
+//     shift table, times as ISO 8601 text, so the sheet reads back as
+//     shift diagrams;
+//   - ratings and shifts: the periods' tables and the diagrams applied;
+//   - plots: the figures, when drawn.
+func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
+	b := newBook("wetline shifts")
+	defer b.Close()
+	z := zoneOf(c.UTCOffset)
+	ps, ss := shiftInfoOf(c)
+	if err := writeShiftsSummary(b, c, ps, ss, z); err != nil {
+		return err
+	}
+	if err := writeShiftGaugingsSheet(b, c, z); err != nil {
+		return err
+	}
+	var props []shiftInfo
+	for _, v := range c.Visits {
+		if len(v.Proposal.Points) > 0 {
+			props = append(props, shiftInfo{ShiftDiagram: v.Proposal, period: -1})
+		}
+	}
+	if err := writeShiftsSheet(b, SheetProposals, props, z, c.Units); err != nil {
+		return err
+	}
+	if err := writeRatingsSheet(b, ps, z, c.Units); err != nil {
+		return err
+	}
+	if len(ss) > 0 {
+		if err := writeShiftsSheet(b, SheetShifts, ss, z, c.Units); err != nil {
+			return err
+		}
+	}
+	if len(c.Figures) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// writeShiftsSummary writes the summary sheet of a shifts workbook.
+func writeShiftsSummary(b *workbook.Book, c *gauged.ShiftCheck, ps []periodInfo, ss []shiftInfo, z *time.Location) error {
+	u := c.Units
+	out, outShifted := outsideCounts(c)
+	items := []SummaryItem{
+		{"read from", joinInputs(c.Provenance.Inputs), ""},
+		{"program", programName(c.Provenance), ""},
+		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
+		{"times in", zoneName(z), ""},
+		{"method", "measured shift s with Q_rating(h + s) = Q; diagrams prorated in time between visits (Kennedy, 1983, USGS TWRI 3-A13)", ""},
+		{"gaugings", len(c.Gaugings), ""},
+		{"field visits", len(c.Visits), ""},
+		{"gaugings outside their quality bands (base rating)", out, ""},
+		{"gaugings outside their quality bands (shifted rating)", outShifted, ""},
+	}
+	items = append(items, historyItems(ps, ss, z, u)...)
+	items = append(items, SummaryItem{"provisional", record.ProvisionalNote, ""})
+	return WriteSummarySheet(b, SheetSummary, items, c.Warnings)
+}
+
+// outsideCounts counts the gaugings outside their bands on the base and
+// on the shifted rating.
+func outsideCounts(c *gauged.ShiftCheck) (base, shifted int) {
+	for _, g := range c.Gaugings {
+		if g.Outside {
+			base++
+		}
+		if g.OutsideShifted {
+			shifted++
+		}
+	}
+	return base, shifted
+}
+
+// WriteShiftsSummary says that a shift check was written to path: the
+// gaugings, how many lie outside their bands, the visits proposing a
+// diagram, the warnings and the caution.
+func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
+	bw := bufio.NewWriter(w)
+	out, outShifted := outsideCounts(c)
+	proposed := 0
+	for _, v := range c.Visits {
+		if len(v.Proposal.Points) > 0 {
+			proposed++
+		}
+	}
+	fmt.Fprintf(bw, "wrote %s: %d gaugings in %d visits, %d outside their bands on the base rating", path, len(c.Gaugings), len(c.Visits), out)
+	if len(c.History.Shifts) > 0 {
+		fmt.Fprintf(bw, ", %d with the shifts applied", outShifted)
+	}
+	fmt.Fprintf(bw, "; %d visit(s) propose a shift diagram\n", proposed)
+	return endSummary(bw, c.Warnings)
+}
