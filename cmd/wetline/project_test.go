@@ -13,28 +13,6 @@ import (
 
 const larchCoords = "demodata/larch-xs-coords.csv"
 
-// topKeys returns the keys of a JSON object in the order written.
-func topKeys(t *testing.T, data string) []string {
-	t.Helper()
-	dec := json.NewDecoder(strings.NewReader(data))
-	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
-		t.Fatalf("not a JSON object: %v %v", tok, err)
-	}
-	var keys []string
-	for dec.More() {
-		tok, err := dec.Token()
-		if err != nil {
-			t.Fatal(err)
-		}
-		keys = append(keys, tok.(string))
-		var skip json.RawMessage
-		if err := dec.Decode(&skip); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return keys
-}
-
 // project writes the projected survey a crew checks; the golden file is
 // the reviewed output for the demo's total-station survey.
 func TestProjectGolden(t *testing.T) {
@@ -99,7 +77,7 @@ func TestProjectJSONAndPlan(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := "section units line left origin azimuth offset_tolerance max_offset reversed points site warnings caution"
-	if got := strings.Join(topKeys(t, string(data)), " "); got != want {
+	if got := strings.Join(jsonKeys(t, data), " "); got != want {
 		t.Errorf("keys %s\nwant %s", got, want)
 	}
 	var rep struct {
