@@ -1,8 +1,12 @@
 // Package plotting draws the report figures of wetline as PNG images: the
-// stage–discharge rating (linear and log–log panels), the surveyed
-// cross-section with its water surfaces and subsections, hydraulic
-// properties against stage, and the slope-area reach profile and
-// overlaid sections.
+// stage–discharge rating (linear and log–log panels, with the bands of a
+// fit and the gaugings), the surveyed cross-section with its water surfaces
+// and subsections, hydraulic properties against stage, the slope-area reach
+// profile and overlaid sections, step-backwater profiles and ratings, the
+// plan of a coordinate survey, shifts against time and stage, the
+// hydrograph of a discharge record, and comparisons of two ratings or two
+// surveys. Draw functions (DrawRating, DrawFit, DrawReach, ...) turn a
+// report into its named figures (rating.Figure) in memory.
 //
 // Conventions used throughout the package:
 //
@@ -14,8 +18,9 @@
 //     figure's Units field (rating.SI: m, m², m³/s; rating.US: ft, ft², ft³/s);
 //     the package never converts units. A missing value is NaN and is left
 //     out of the drawing.
-//   - Stage or elevation is on the vertical axis of every figure, as
-//     hydrologists read a rating.
+//   - Stage or elevation is on the vertical axis of every figure but the
+//     plan (northing) and the hydrograph's discharge panel, as hydrologists
+//     read a rating.
 //   - Each drawing function writes one PNG to an io.Writer and returns a
 //     Result whose Warnings list what was left out and why. Bad data never
 //     panics: a panic inside the plotting library is recovered and returned

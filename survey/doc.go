@@ -1,7 +1,10 @@
-// Package survey reads field data: surveyed cross-sections, discharge
-// measurements, slope-area reach tables and saved rating tables, from CSV
-// files or workbook sheets, and writes the blank field workbook a crew
-// fills in.
+// Package survey reads field data: surveyed cross-sections (by station,
+// or by easting and northing projected onto the section line), discharge
+// measurements, reach tables for the slope-area and step-backwater
+// methods, rating tables and rating periods, shift diagrams and stage
+// records, from CSV files or workbook sheets, with the site metadata and
+// the units written with them; and it writes the blank field workbook a
+// crew fills in.
 //
 // Conventions used throughout the package:
 //
@@ -15,6 +18,16 @@
 //     file are reported together (at most MaxReported).
 //   - Numbers are written with a decimal point; stations increase left to
 //     right looking downstream.
+//   - A unit written in a header is data: the headers of one table must
+//     agree, and UnitNote.Resolve refuses a unit system asked for that they
+//     contradict.
+//   - Key lines above a table ("# site: Larch Brook" in a CSV file, a key
+//     and a value in two cells above a sheet's header) say what is known of
+//     the site (MetaKeys; Table.Site).
+//   - Inputs are bounded (Limits: DefaultMaxBytes, DefaultMaxRows,
+//     DefaultMaxCells, raised by the environment variables EnvMaxBytes,
+//     EnvMaxRows, EnvMaxCells), only regular files are read, and implausible values (MaxCoordinate,
+//     MaxElevation, MinN, MaxN) are refused at their cell.
 //   - Readers return plain values from packages subdivide and rating and
 //     never modify the files they read.
 package survey
