@@ -26,8 +26,9 @@ type TemplateOptions struct {
 	// many as it has points.
 	Rows int
 	// Surveys prefill the first cross-section sheets, one survey each
-	// (points, n, bank marks, labels, notes), for a crew to check or
-	// re-survey. A sheet is named after its section when that is a usable
+	// (points, n, bank marks, labels, notes, and its Site in the site
+	// block), for a crew to check or re-survey; their headers' units must
+	// be Units. A sheet is named after its section when that is a usable
 	// sheet name, else XS-i. There are max(Sections, len(Surveys)) sheets.
 	Surveys []Survey
 }
@@ -60,9 +61,8 @@ const SectionHeaderRow = 6
 func SectionSheetName(i int) string { return fmt.Sprintf("XS-%d", i) }
 
 // SuggestedMarks returns the labels offered in the mark column's
-// drop-down list. Only
-// MarkBank means anything to the reader; any other label may be typed and
-// is kept with the point.
+// drop-down list of a cross-section sheet. Only MarkBank means anything
+// to the reader; any other label may be typed and is kept with the point.
 func SuggestedMarks() []string {
 	return []string{MarkBank, "thalweg", "water edge", "pin", "high-water mark"}
 }
@@ -498,7 +498,7 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 
 // WriteSurveySheet writes a survey as a table sheet with the columns of a
 // field workbook's cross-section sheet (see WriteTemplate), readable by
-// ReadSection. It lives here, beside the template, so that the
+// ReadSection, its header in row 1 (no site block). It lives here, beside the template, so that the
 // two never disagree.
 func WriteSurveySheet(b *workbook.Book, name string, sv Survey, u rating.Units) error {
 	cols := sectionColumns(u)
