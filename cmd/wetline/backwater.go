@@ -65,7 +65,7 @@ func (f *backwaterFlags) register(fs *flagSet) {
 		"for plot and fit --hydraulic-rating), json or xlsx (a results workbook; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the rating figures (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the report and the figure titles (default: the reach table's site key)")
+	fs.StringVar(&f.site, "site", "", siteUsage)
 	fs.BoolVar(&f.anywhere, "surveys-anywhere", false, "let the reach table name survey files outside its own folder")
 	f.coords.register(fs, false)
 	for _, name := range []string{"expansion", "spread-tol"} {
@@ -250,12 +250,10 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if f.site != "" {
-		rep.Provenance.Site.Name = f.site
-	}
+	rep.Provenance.Site = siteWith(rep.Provenance.Site, f.site)
 	if f.plots != "" || format == "xlsx" {
 		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-		figs, w, err := plotting.DrawBackwater(plotting.BackwaterFigures{Site: f.site, Base: base, Report: rep})
+		figs, w, err := plotting.DrawBackwater(plotting.BackwaterFigures{Site: rep.Provenance.Site.Name, Base: base, Report: rep})
 		if err != nil {
 			return err
 		}

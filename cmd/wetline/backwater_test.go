@@ -335,3 +335,26 @@ func TestDemoReachInSync(t *testing.T) {
 		}
 	}
 }
+
+// The backwater rating at the gauge stands where a hydraulic rating is
+// used: fit reads the table backwater writes, compares the gaugings the
+// table covers and warns of the rows it does not reach.
+func TestBackwaterRatingFeedsFit(t *testing.T) {
+	t.Parallel()
+	reachPath := bwPlain(t)
+	table := filepath.Join(filepath.Dir(reachPath), "bw-rating.csv")
+	if _, errs, code := runCLI(t, "backwater", reachPath, "--from", "2", "--to", "60", "--step", "2", "--at", "XS-1",
+		"--boundary", "normal:0.0012", "--format", "csv", "-o", table); code != 0 {
+		t.Fatalf("backwater: exit %d: %s", code, errs)
+	}
+	for _, method := range []string{"lsq", "bayes"} {
+		out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--hydraulic-rating", table, "--datum", "100", "--method", method, "--format", "json")
+		if code != 0 {
+			t.Fatalf("fit --method %s: exit %d: %s", method, code, errs)
+		}
+		if !strings.Contains(out, `"hydraulic_source"`) || !strings.Contains(out, "bw-rating.csv") ||
+			!strings.Contains(out, "lie outside the hydraulic rating table") {
+			t.Errorf("fit --method %s on the backwater table:\n%.600s", method, out)
+		}
+	}
+}

@@ -51,7 +51,7 @@ func (f *compareFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the comparison figure (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the figure title")
+	fs.StringVar(&f.site, "site", "", siteUsage)
 }
 
 // ratingOnly and sectionOnly are the flags that apply to one kind of
@@ -180,10 +180,10 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 	if err != nil {
 		return fmt.Errorf("compare: %s and %s: %w", a, b, err)
 	}
-	c.Provenance = rating.Provenance{Program: program(), Inputs: []string{a, b}}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: []string{a, b}, Site: siteWith(rating.Site{}, f.site)}
 	c.Warnings = append(warnings, c.Warnings...)
 	if f.plots != "" || format == "xlsx" {
-		figs, w, err := plotting.DrawRatingComparison(&c, f.site, compareBase(a, b), plotting.Size{})
+		figs, w, err := plotting.DrawRatingComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
 		if err != nil {
 			return err
 		}
@@ -260,11 +260,11 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 		return fmt.Errorf("compare: %w", err)
 	}
 	c.A, c.B = ps[0].Source(), ps[1].Source()
-	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(ps[0].Site.Merge(ps[1].Site), f.site)}
 	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
 	c.Warnings = append(warnings, c.Warnings...)
 	if f.plots != "" || format == "xlsx" {
-		figs, w, err := plotting.DrawSectionComparison(&c, f.site, compareBase(a, b), plotting.Size{})
+		figs, w, err := plotting.DrawSectionComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
 		if err != nil {
 			return err
 		}

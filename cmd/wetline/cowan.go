@@ -8,7 +8,7 @@ import (
 	"wetline/survey/results"
 )
 
-const cowanUsage = "cowan [--floodplain] --bed MATERIAL [--base-column straight|smooth] [--irregularity K] [--variation K] [--obstruction K] [--vegetation K] [--meander K] | cowan --list"
+const cowanUsage = "cowan [--site NAME] [--floodplain] --bed MATERIAL [--base-column straight|smooth] [--irregularity K] [--variation K] [--obstruction K] [--vegetation K] [--meander K] | cowan --list"
 
 // runCowan turns a field crew's description of a reach into Manning's n
 // by Cowan's method.
@@ -25,6 +25,7 @@ func runCowan(ctx context.Context, e *env, args []string) error {
 	fs.StringVar(&in.Vegetation, "vegetation", "", "n4, amount of vegetation (default: none)")
 	fs.StringVar(&in.Meander, "meander", "", "m, degree of meandering (default: minor)")
 	list := fs.Bool("list", false, "print the tables and their choices")
+	site := fs.String("site", "", "the site's name, for the report")
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
@@ -48,5 +49,5 @@ func runCowan(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	return results.WriteCowanText(e.stdout, in, res)
+	return results.WriteCowanText(e.stdout, in, res, rating.Provenance{Program: program(), Site: rating.Site{Name: *site}})
 }

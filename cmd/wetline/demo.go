@@ -76,6 +76,7 @@ func demoSteps() []struct {
 		{"A built section, the Mill Lane road culvert (invented):", (*demo).culvert},
 		{"Brindle Creek below Quarry Road, a post-flood slope-area reach (invented):", (*demo).slopeArea},
 		{"Tallow Creek through the gauge, a step-backwater rating from the surveyed reach (invented):", (*demo).backwater},
+		{"Larch Brook at the footbridge, a total-station survey in eastings and northings (invented):", (*demo).coordinates},
 		{"A year of record at the Tallow Creek gauge: visits, shifts, the discharge record (invented):", (*demo).record},
 	}
 }
@@ -177,7 +178,7 @@ func (d *demo) rateSurvey(path, sheet string, lookup bool) (rating.RatingReport,
 	if err != nil {
 		return rep, err
 	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
 	rep.Ground = p.Ground
 	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
 	return rep, nil

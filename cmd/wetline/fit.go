@@ -58,7 +58,7 @@ type fitFlags struct {
 	to, step        float64
 	format          string
 	output          string
-	plots, site     string
+	plots           string
 }
 
 func (f *fitFlags) register(fs *flagSet) {
@@ -93,7 +93,6 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, bands, posterior, lookup sheet and figure; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings and both bands (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the figure title")
 }
 
 func runFit(ctx context.Context, e *env, args []string) error {
@@ -124,7 +123,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	}
 	base := strings.TrimSuffix(filepath.Base(fs.Arg(0)), filepath.Ext(fs.Arg(0)))
 	if f.plots != "" || format == "xlsx" {
-		figs, w, err := plotting.DrawFit(rep, f.site, base, plotting.Size{})
+		figs, w, err := plotting.DrawFit(rep, rep.Provenance.Site.Name, base, plotting.Size{})
 		if err != nil {
 			return err
 		}
@@ -209,7 +208,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	rep.Warnings = append(warnings, rep.Warnings...)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: site}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(site, f.site)}
 	return rep, nil
 }
 

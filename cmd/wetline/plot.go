@@ -19,7 +19,6 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	sf.register(fs)
 	section := fs.String("section", "", "surveyed cross-section of the table, for the section figure")
 	zeroFlow := fs.Float64("zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
-	site := fs.String("site", "", "site name for the figure titles")
 	datum := fs.Float64("datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
 	width := fs.Int("width", plotting.DefaultWidth, "figure width in pixels")
 	height := fs.Int("height", plotting.DefaultHeight, "figure height in pixels")
@@ -55,7 +54,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)
-	in := plotting.RatingFigures{Site: *site, Base: t.Name, Table: t, ZeroFlow: *zeroFlow, Size: size,
+	in := plotting.RatingFigures{Site: sf.site, Base: t.Name, Table: t, ZeroFlow: *zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if *section != "" {
 		p, err := sf.prepareIn(*section, t.Units)
@@ -65,6 +64,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
 		in.Ground, in.Geometry = p.Ground, sf.geometry()
+		in.Site = siteWith(p.Site, sf.site).Name
 	}
 	figs, w, err := plotting.DrawRating(in)
 	if err != nil {

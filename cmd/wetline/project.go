@@ -24,7 +24,7 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	format := fs.String("format", "", "output format: csv (a survey every command reads) or json (default: from the -o extension, else csv)")
 	out := fs.StringP("output", "o", "", "output file (.csv or .json; default: standard output)")
 	plots := fs.String("plots", "", "folder for the plan figure (PNG)")
-	site := fs.String("site", "", "site name for the figure title (default: the survey's site key)")
+	site := fs.String("site", "", siteUsage)
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
@@ -48,9 +48,7 @@ func runProject(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	rep.Provenance.Program = program()
-	if *site != "" {
-		rep.Provenance.Site.Name = *site
-	}
+	rep.Provenance.Site = siteWith(rep.Provenance.Site, *site)
 	if *plots != "" {
 		sv, pr := rep.Survey, rep.Survey.Projection
 		pts := sv.Section.Points

@@ -9,31 +9,12 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"wetline/survey"
+
+	"github.com/xuri/excelize/v2"
 )
 
 const larchCoords = "demodata/larch-xs-coords.csv"
-
-// topKeys returns the keys of a JSON object in the order written.
-func topKeys(t *testing.T, data string) []string {
-	t.Helper()
-	dec := json.NewDecoder(strings.NewReader(data))
-	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
-		t.Fatalf("not a JSON object: %v %v", tok, err)
-	}
-	var keys []string
-	for dec.More() {
-		tok, err := dec.Token()
-		if err != nil {
-			t.Fatal(err)
-		}
-		keys = append(keys, tok.(string))
-		var skip json.RawMessage
-		if err := dec.Decode(&skip); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return keys
-}
 
 // project writes the projected survey a crew checks; the golden file is
 // the reviewed output for the demo's total-station survey.
@@ -99,7 +80,7 @@ func TestProjectJSONAndPlan(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := "section units line left origin azimuth offset_tolerance max_offset reversed points site warnings caution"
-	if got := strings.Join(topKeys(t, string(data)), " "); got != want {
+	if got := strings.Join(jsonKeys(t, data), " "); got != want {
 		t.Errorf("keys %s\nwant %s", got, want)
 	}
 	var rep struct {
@@ -167,6 +148,40 @@ func TestCoordinateSurveyEverywhere(t *testing.T) {
 		}
 		if strings.Contains(strings.Join(args, " "), "--offset-tolerance 1") && strings.Contains(errs, "more than the tolerance") {
 			t.Errorf("%v: warned within the tolerance: %s", args, errs)
+		}
+	}
+}
+
+// The demo's coordinate survey is projected, rated from the coordinates,
+// and its workbook summary names the site and the survey date.
+func TestDemoCoordinateSurvey(t *testing.T) {
+	t.Parallel()
+	dir, stdout := demoOutput(t)
+	for _, name := range []string{"larch-xs-coords.csv", "larch-xs-stations.csv", "larch-xs-plan.png", "larch-xs-results.xlsx"} {
+		if !strings.Contains(stdout, name) {
+			t.Errorf("the demo does not list %s", name)
+		}
+	}
+	sv, err := survey.ReadSection(filepath.Join(dir, "larch-xs-stations.csv"), "", survey.SectionOptions{})
+	if err != nil || len(sv.Section.Points) != 15 || sv.Projection.Line != "" || sv.Site.Surveyed != "2026-10-03" {
+		t.Errorf("projected survey reads back as %d points, projection %q, site %+v: %v", len(sv.Section.Points), sv.Projection.Line, sv.Site, err)
+	}
+	f, err := excelize.OpenFile(filepath.Join(dir, "larch-xs-results.xlsx"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := f.GetRows("summary")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text strings.Builder
+	for _, r := range rows {
+		text.WriteString(strings.Join(r, " ") + "\n")
+	}
+	for _, want := range []string{"Larch Brook at the footbridge (invented)", "surveyed 2026-10-03", "projected from eastings and northings"} {
+		if !strings.Contains(text.String(), want) {
+			t.Errorf("workbook summary lacks %q:\n%s", want, text.String())
 		}
 	}
 }

@@ -29,7 +29,7 @@ type rateFlags struct {
 	long           bool
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--datum D] [--calibrate GAUGINGS [--channel-only]] [--plots DIR]"
+const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--datum D] [--calibrate GAUGINGS [--channel-only]] [--plots DIR] [--site NAME]"
 
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
@@ -117,7 +117,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	if f.plots != "" || format == "xlsx" {
-		if err := drawRating(&rep, fs.Arg(0), ""); err != nil {
+		if err := drawRating(&rep, fs.Arg(0), rep.Provenance.Site.Name); err != nil {
 			return err
 		}
 	}
@@ -159,7 +159,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rep, failed(p, err)
 	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
 	rep.Ground = p.Ground
 	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
 	return rep, nil

@@ -292,7 +292,7 @@ func (f *recordFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv (one table) or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the hydrograph figure (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the figure title")
+	fs.StringVar(&f.site, "site", "", siteUsage)
 }
 
 // tables turns --daily and --unit into the tables to write.
@@ -340,7 +340,7 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 	}
 	if f.plots != "" || format == "xlsx" {
 		base := strings.TrimSuffix(filepath.Base(fs.Arg(0)), filepath.Ext(fs.Arg(0)))
-		figs, w, err := plotting.DrawRecord(res, f.site, base, plotting.Size{})
+		figs, w, err := plotting.DrawRecord(res, res.Provenance.Site.Name, base, plotting.Size{})
 		if err != nil {
 			return err
 		}
@@ -386,6 +386,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset)}
 	inputs = append([]string{path}, inputs...)
 	warnings = append(warnings, sr.Warnings...)
+	var site rating.Site
 	if f.gaugings != "" {
 		gs, err := survey.ReadGaugingsAt(f.gaugings, f.gaugingsSheet, time.Duration(f.offset))
 		if err != nil {
@@ -394,6 +395,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err := f.gaugingUnits(gs, f.gaugings); err != nil {
 			return nil, err
 		}
+		site = gs.Site
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)
 		warnings = append(warnings, gs.Warnings...)
@@ -404,7 +406,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	res.Name = filepath.Base(path)
-	res.Provenance = rating.Provenance{Program: program(), Inputs: inputs}
+	res.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(site, f.site)}
 	res.Warnings = append(warnings, res.Warnings...)
 	return res, nil
 }

@@ -93,8 +93,9 @@ func firstOf(t *testing.T, data []byte, key string) []byte {
 	return list[0]
 }
 
-// TestRecordJSONContract: the record's JSON has exactly the keys of the
-// contract, in order, and so do its unit and daily rows.
+// TestRecordJSONContract: the record's JSON has the keys of the contract,
+// in order, then the site (added after them, as every report's JSON adds
+// keys), and its rows have exactly the keys of the contract.
 func TestRecordJSONContract(t *testing.T) {
 	t.Parallel()
 	out, errs, code := runCLI(t, recordArgs("--format", "json")...)
@@ -105,7 +106,7 @@ func TestRecordJSONContract(t *testing.T) {
 	for _, c := range []struct {
 		got, want []string
 	}{
-		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution"}},
+		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site"}},
 		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table"}},
@@ -334,7 +335,7 @@ func TestDemoRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution" {
+	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution,site" {
 		t.Errorf("keys %s", got)
 	}
 	var doc struct {

@@ -22,6 +22,7 @@ type sectionFlags struct {
 	shape     string // a built shape spec instead of a survey file
 	composite string // composite roughness method
 	coords    coordFlags
+	site      string
 	fs        *flagSet
 }
 
@@ -88,6 +89,19 @@ func (sf *sectionFlags) register(fs *flagSet) {
 	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
 	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n), horton, pavlovskii or lotter")
 	sf.coords.register(fs, true)
+	fs.StringVar(&sf.site, "site", "", siteUsage)
+}
+
+// siteUsage is the help of --site.
+const siteUsage = "the site's name for the report and the figure titles (default: the site key of the input)"
+
+// siteWith returns what is known of a site with its name replaced by
+// name, when given (--site).
+func siteWith(s rating.Site, name string) rating.Site {
+	if name != "" {
+		s.Name = name
+	}
+	return s
 }
 
 // geometry returns the wetting options of the flags.

@@ -5,13 +5,14 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strings"
 
 	"wetline/rating"
 	"wetline/subdivide"
 	"wetline/survey"
 )
 
-const shapeUsage = "shape SPEC --n N [--units si|us] [-o FILE]   (SPEC: " + subdivide.ShapeForms + ")"
+const shapeUsage = "shape SPEC --n N [--units si|us] [--site NAME] [-o FILE]   (SPEC: " + subdivide.ShapeForms + ")"
 
 // runShape writes a built open shape as a survey CSV that can be edited
 // and read back by every command.
@@ -21,6 +22,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	fs.Var(&n, "n", "Manning's n: one value, or LEFT,CHANNEL,RIGHT for a compound shape (omit for no n column)")
 	units := fs.String("units", "si", "unit system of the dimensions: si (m) or us (ft)")
 	out := fs.StringP("output", "o", "", "output file (.csv; default: standard output)")
+	site := fs.String("site", "", "the site's name, written as the survey's site key")
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
@@ -51,11 +53,15 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return usageError{err: err}
 	}
-	comments := []string{
+	var comments []string
+	if *site != "" {
+		comments = append(comments, survey.MetaSite+": "+strings.Join(strings.Fields(*site), " "))
+	}
+	comments = append(comments,
 		fmt.Sprintf("Built section %s, lengths in %s; invert at elevation %g.", sh.String(), u.Length(), sh.Invert),
 		fmt.Sprintf("The sides stop at the nominal top, %g %s above the invert; edit the points freely.", sh.NominalHeight(), u.Length()),
-		"Caution: " + rating.Caution,
-	}
+		"Caution: "+rating.Caution,
+	)
 	return e.deliver(delivery{output: *out, inline: true,
 		write: func(w io.Writer) error { return survey.WriteSectionCSV(w, sec, comments) },
 		summary: func(w io.Writer) error {

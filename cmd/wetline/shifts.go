@@ -38,7 +38,7 @@ func (f *shiftsFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the figures of shift against time and against stage (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the figure titles")
+	fs.StringVar(&f.site, "site", "", siteUsage)
 }
 
 func runShifts(ctx context.Context, e *env, args []string) error {
@@ -73,7 +73,7 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	}
 	if f.plots != "" || format == "xlsx" {
 		base := strings.TrimSuffix(filepath.Base(fs.Arg(0)), filepath.Ext(fs.Arg(0)))
-		figs, w, err := plotting.DrawShifts(c, f.site, base, plotting.Size{})
+		figs, w, err := plotting.DrawShifts(c, c.Provenance.Site.Name, base, plotting.Size{})
 		if err != nil {
 			return err
 		}
@@ -126,7 +126,7 @@ func (f *shiftsFlags) check(fs *flagSet, path string) (*gauged.ShiftCheck, error
 	if err != nil {
 		return nil, usageError{err: err}
 	}
-	c.Provenance = rating.Provenance{Program: program(), Inputs: append([]string{path}, inputs...)}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: append([]string{path}, inputs...), Site: siteWith(gs.Site, f.site)}
 	c.Warnings = append(append(warnings, gs.Warnings...), c.Warnings...)
 	return &c, nil
 }

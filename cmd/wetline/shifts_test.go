@@ -50,7 +50,7 @@ func TestShiftsJSONKeys(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if got := strings.Join(jsonKeys(t, []byte(out)), ","); got != "units,gaugings,visits,ratings,shifts,warnings,caution" {
+	if got := strings.Join(jsonKeys(t, []byte(out)), ","); got != "units,gaugings,visits,ratings,shifts,warnings,caution,site" {
 		t.Errorf("keys %s", got)
 	}
 	if got := jsonKeys(t, firstOf(t, []byte(out), "gaugings")); strings.Join(got, ",") != strings.Join(results.ShiftGaugingColumns(), ",") {

@@ -39,7 +39,7 @@ type slopeAreaFlags struct {
 func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the sections overlaid (PNG) into this folder")
-	fs.StringVar(&f.site, "site", "", "site name for the figure titles")
+	fs.StringVar(&f.site, "site", "", siteUsage)
 	fs.StringVar(&f.units, "units", "si", unitsUsage)
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
@@ -141,9 +141,10 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	rep.Provenance.Site = siteWith(rep.Provenance.Site, f.site)
 	if f.plots != "" || format == "xlsx" {
 		base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-		figs, w, err := plotting.DrawReach(rep, f.site, base, plotting.Size{})
+		figs, w, err := plotting.DrawReach(rep, rep.Provenance.Site.Name, base, plotting.Size{})
 		if err != nil {
 			return err
 		}

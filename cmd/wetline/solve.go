@@ -10,7 +10,7 @@ import (
 	"wetline/survey/results"
 )
 
-const solveUsage = "solve (SURVEY | --shape SPEC) (--discharge Q [--slope S] | --area A | --stage H [--slope S]) [--n ...] [--composite M] [--units si|us] [--format text|json] [-o FILE]"
+const solveUsage = "solve (SURVEY | --shape SPEC) (--discharge Q [--slope S] | --area A | --stage H [--slope S]) [--n ...] [--composite M] [--units si|us] [--site NAME] [--format text|json] [-o FILE]"
 
 func runSolve(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("solve", solveUsage)
@@ -66,7 +66,7 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 		return failed(p, err)
 	}
 	rep.Section = p.Source()
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, sf.site)}
 	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
 	write := results.WriteSolveText
 	if format == "json" {

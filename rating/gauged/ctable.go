@@ -1,6 +1,7 @@
 package gauged
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"sort"
@@ -132,12 +133,12 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	if c.ok() {
 		top = math.Max(top, c.top())
 		if c.top() < f.HighStage {
-			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%g %s) is above %s (%g %s on the gauge)", f.HighStage, u.Length(), end, c.top(), u.Length()))
+			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%s %s) is above %s (%s %s on the gauge)", gh(f.HighStage), u.Length(), end, gh(c.top()), u.Length()))
 		}
 	}
 	if opt.To != 0 {
 		if c.ok() && opt.To > math.Max(c.top(), f.HighStage) {
-			return t, fmt.Errorf("%w: stage %g %s is above %s at %g %s", ErrBeyondSection, opt.To, u.Length(), end, c.top(), u.Length())
+			return t, fmt.Errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
 		}
 		if !(opt.To > lo) {
 			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
@@ -165,10 +166,14 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	if err != nil {
 		return t, err
 	}
+	var uncovered []float64
 	for _, h := range stages {
 		r, err := t.row(h, true)
 		if err != nil {
 			return t, err
+		}
+		if t.hyd.ok() && math.IsNaN(r.Hydraulic) {
+			uncovered = append(uncovered, h)
 		}
 		t.Rows = append(t.Rows, r)
 		if !math.IsNaN(r.Multiple) && !(r.Multiple <= t.MaxMultiple) {
@@ -176,6 +181,11 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		}
 	}
 	t.Warnings = append(t.Warnings, t.extensionWarnings()...)
+	if len(uncovered) > 0 {
+		lo, hi := t.hyd.tab.Range()
+		t.Warnings = append(t.Warnings, fmt.Sprintf("%d rows from gauge height %.3f to %.3f lie outside the hydraulic rating table (%.3f to %.3f): they have no hydraulic discharge",
+			len(uncovered), uncovered[0], uncovered[len(uncovered)-1], lo, hi))
+	}
 	return t, nil
 }
 
@@ -304,10 +314,16 @@ func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	k := math.NaN()
 	if t.hyd.ok() {
 		q, kk, err := t.hyd.at(h)
-		if err != nil {
+		switch {
+		// A table that does not reach a row leaves it without a hydraulic
+		// discharge, unless the row rests on it (the extension above the
+		// gaugings needs its conveyance).
+		case errors.Is(err, ErrBeyondTable) && !(h > f.HighStage && t.Extension != nil):
+		case err != nil:
 			return r, err
+		default:
+			r.Hydraulic, k = q, kk
 		}
-		r.Hydraulic, k = q, kk
 	}
 	switch {
 	case h > f.HighStage && t.Extension != nil:

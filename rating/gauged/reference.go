@@ -3,6 +3,7 @@ package gauged
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"wetline/rating"
 )
@@ -95,9 +96,20 @@ func tableDischarge(t *TableRating, h float64) (float64, error) {
 	}
 	q, how := t.Discharge(h)
 	if how == OutsideTable || math.IsNaN(q) {
-		return math.NaN(), fmt.Errorf("%w: gauge height %g is outside %g to %g of %s", ErrBeyondTable, h, lo, hi, t.Name())
+		return math.NaN(), fmt.Errorf("%w: gauge height %s is outside %s to %s of %s", ErrBeyondTable, gh(h), gh(lo), gh(hi), t.Name())
 	}
 	return q, nil
+}
+
+// ghDecimals is the number of decimals of a gauge height in messages:
+// 0.1 mm or 0.0001 ft, finer than any gauge is read.
+const ghDecimals = 4
+
+// gh writes a gauge height for a message without the round-off of a
+// datum subtracted (0.7915, not 0.7914999999999992).
+func gh(v float64) string {
+	p := math.Pow(10, ghDecimals)
+	return strconv.FormatFloat(math.Round(v*p)/p, 'f', -1, 64)
 }
 
 // CompareTable measures every gauging against a hydraulic rating given as

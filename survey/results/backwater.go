@@ -132,13 +132,14 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Expansion    Float             `json:"expansion"`
 		Contraction  Float             `json:"contraction"`
 		Verification *jsonVerification `json:"verification"`
+		Site         *jsonSite         `json:"site"`
 	}{
 		Boundary: bwJSONBoundary(rep), Profiles: make([]jsonProfile, len(r.Profiles)),
 		Rating: jsonBWRating{Section: r.Rating.Section, Rows: make([]jsonRead, len(r.Rating.Rows)),
 			Tolerance: Float(r.Rating.Tolerance), Hydraulics: jsonRows(rep.Table)},
 		Warnings: nonNil(rep.Warnings), Caution: rating.Caution, Units: UnitNames(r.Units),
 		Reach: rep.Name, Program: programName(rep.Provenance),
-		Expansion: Float(r.Expansion), Contraction: Float(r.Contraction),
+		Expansion: Float(r.Expansion), Contraction: Float(r.Contraction), Site: siteJSON(rep.Provenance.Site),
 	}
 	for i, p := range r.Profiles {
 		out.Profiles[i] = bwJSONProfile(p)
@@ -237,6 +238,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 	}
 	line("%s", title)
 	line("%s, %s units (lengths %s, discharge %s)", programName(rep.Provenance), strings.ToUpper(u.String()), L, Q)
+	b.WriteString(siteLine(rep.Provenance))
 	line("")
 	bwTextMethod(line, rep)
 

@@ -74,9 +74,10 @@ func WriteRatingComparisonJSON(w io.Writer, c *gauged.RatingComparison) error {
 		Ratings    []jsonPeriod           `json:"ratings"`
 		Warnings   []string               `json:"warnings"`
 		Caution    string                 `json:"caution"`
+		Site       *jsonSite              `json:"site"`
 	}{Kind: "ratings", A: c.A, B: c.B, Units: UnitNames(c.Units), From: Float(c.From), To: Float(c.To),
 		MaxPercent: Float(c.MaxPercent), MaxStage: Float(c.MaxStage), Rows: []jsonRatingDifference{},
-		Warnings: nonNil(c.Warnings), Caution: rating.Caution}
+		Warnings: nonNil(c.Warnings), Caution: rating.Caution, Site: siteJSON(c.Provenance.Site)}
 	for _, r := range c.Rows {
 		out.Rows = append(out.Rows, jsonRatingDifference{Float(r.Stage), Float(r.A), Float(r.B), Float(r.Difference), Float(r.Percent)})
 	}
@@ -99,6 +100,7 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	u := c.Units
 	L, Q := u.Length(), u.Discharge()
 	fmt.Fprintf(bw, "Two ratings compared: A = %s, B = %s (%s units)\n", c.A, c.B, u)
+	bw.WriteString(siteLine(c.Provenance))
 	ts := comparedTables(c)
 	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
 	fmt.Fprintf(bw, "Common range of stage: %s to %s %s (neither table is extrapolated)\n", FormatLength(c.From), FormatLength(c.To), L)
@@ -240,7 +242,9 @@ func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error 
 		Rows     []jsonSectionDifference `json:"rows"`
 		Warnings []string                `json:"warnings"`
 		Caution  string                  `json:"caution"`
-	}{Kind: "sections", A: c.A, B: c.B, Units: UnitNames(c.Units), Rows: []jsonSectionDifference{}, Warnings: nonNil(c.Warnings), Caution: rating.Caution}
+		Site     *jsonSite               `json:"site"`
+	}{Kind: "sections", A: c.A, B: c.B, Units: UnitNames(c.Units), Rows: []jsonSectionDifference{}, Warnings: nonNil(c.Warnings), Caution: rating.Caution,
+		Site: siteJSON(c.Provenance.Site)}
 	for _, r := range c.Rows {
 		out.Rows = append(out.Rows, jsonSectionDifference{Float(r.Stage), geometryJSON(r.A), geometryJSON(r.B), geometryJSON(r.Difference), Float(r.ConveyancePercent)})
 	}
@@ -255,6 +259,7 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 	u := c.Units
 	L, A := u.Length(), u.Area()
 	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; both in one datum)\n", c.A, c.B, u)
+	bw.WriteString(siteLine(c.Provenance))
 	fmt.Fprintf(bw, "Differences are B − A: a larger area or conveyance in B is scour (or a lower control), a smaller one fill.\n")
 	fmt.Fprintf(bw, "\n  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "stage", "area A", "area B", "Δ area", "Δ perim.", "Δ width", "conv. A", "conv. B", "Δ conv. %")
 	fmt.Fprintf(bw, "  %9s %10s %10s %10s %9s %9s %12s %12s\n", "("+L+")", "("+A+")", "("+A+")", "("+A+")", "("+L+")", "("+L+")", "("+u.Conveyance()+")", "("+u.Conveyance()+")")

@@ -18,11 +18,12 @@ func cowanValue(lo, hi float64) string {
 	return v
 }
 
-// WriteCowanText writes Manning's n by Cowan's method for a reader: each
-// term with its table value, n and its range, the tables' source and the
-// caution.
-func WriteCowanText(w io.Writer, in rating.CowanInput, res rating.CowanResult) error {
+// WriteCowanText writes Manning's n by Cowan's method for a reader: the
+// site when known, each term with its table value, n and its range, the
+// tables' source and the caution.
+func WriteCowanText(w io.Writer, in rating.CowanInput, res rating.CowanResult, p rating.Provenance) error {
 	bw := bufio.NewWriter(w)
+	bw.WriteString(siteLine(p))
 	where := "channel"
 	if in.Floodplain {
 		where = "flood plain"

@@ -314,6 +314,7 @@ type jsonFitReport struct {
 	Prior         []jsonControl      `json:"prior_rating"`
 	Warnings      []string           `json:"warnings"`
 	Caution       string             `json:"caution"`
+	SiteMetadata  *jsonSite          `json:"site_metadata"`
 }
 
 // WriteFitJSON writes a gaugings report as one JSON object:
@@ -326,7 +327,7 @@ type jsonFitReport struct {
 //	 "floodplain_added",
 //	 "selection":{...},"band_note","bands_withheld","more_controls":{...},
 //	 "relation_tests":{...},"johnson":{...},"posterior":{...},
-//	 "prior_rating":[...],"warnings":[...],"caution"}
+//	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...}}
 //
 // Each segment (one per control) has from_stage, to_stage, coefficient,
 // its own zero_flow_stage and exponent (with standard errors), control
@@ -338,10 +339,12 @@ type jsonFitReport struct {
 // the parametric band, as in earlier versions) and gauged_multiple;
 // posterior (Bayesian only, else null) parameters[] with name, mean, sd,
 // p2_5, p50, p97_5, prior_mean, prior_sd, and rhat_max, ess_min,
-// acceptance. Stages are gauge heights. Parts that do not apply are null
-// or empty; undefined numbers are null.
+// acceptance. site is the name the report goes by (the section's or the
+// gaugings file's); site_metadata what is known of the site (name, id,
+// surveyed, datum, crew; null when nothing). Stages are gauge heights.
+// Parts that do not apply are null or empty; undefined numbers are null.
 func WriteFitJSON(w io.Writer, r *gauged.Report) error {
-	out := jsonFitReport{Site: r.Site, Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
+	out := jsonFitReport{Site: r.Site, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
 		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: nonNil(r.Warnings), Caution: rating.Caution,
 		Convention: gauged.UncertaintyConvention(), HydSource: r.HydraulicSource, BankStage: Float(r.BankStage), Floodplain: r.FloodplainAdded,
@@ -503,6 +506,7 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 		title += " at " + r.Site
 	}
 	p("%s: %d measurements, %s units\n", title, len(r.Gaugings), u)
+	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil:
 		p("Gauge datum: elevation = gauge height + %s %s (--datum); hydraulic rating at slope %g\n", FormatFloat(r.Datum), L, r.Slope)

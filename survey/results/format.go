@@ -147,6 +147,15 @@ type jsonSite struct {
 	Crew     string `json:"crew"`
 }
 
+// siteLine is the text line naming the site of a report ("" when nothing
+// is known of it).
+func siteLine(p rating.Provenance) string {
+	if s := p.Site.String(); s != "" {
+		return "Site: " + s + "\n"
+	}
+	return ""
+}
+
 // siteJSON returns the JSON of a site, nil when nothing is known.
 func siteJSON(s rating.Site) *jsonSite {
 	if !s.Known() {

@@ -290,6 +290,7 @@ func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error
 		{"shifts", jsonShifts(ss, res.Zone)},
 		{"warnings", nonNil(res.Warnings)},
 		{"caution", recordCaution(record.ProvisionalNote)},
+		{"site", siteJSON(res.Provenance.Site)},
 	})
 }
 
@@ -429,6 +430,7 @@ func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 	}
 	fmt.Fprintf(bw, "\nUnits: %s (gauge heights and shifts in %s, discharge in %s); days taken in %s; gaps longer than %s are not bridged\n",
 		u, u.Length(), u.Discharge(), zoneName(res.Zone), record.FormatDuration(res.MaxGap))
+	bw.WriteString(siteLine(res.Provenance))
 	if len(res.Provenance.Inputs) > 0 {
 		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(res.Provenance.Inputs), programName(res.Provenance))
 	}

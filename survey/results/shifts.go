@@ -126,7 +126,9 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 		Shifts   []jsonShift        `json:"shifts"`
 		Warnings []string           `json:"warnings"`
 		Caution  string             `json:"caution"`
-	}{Units: UnitNames(c.Units), Gaugings: []jsonShiftGauging{}, Visits: []jsonVisit{}, Warnings: nonNil(c.Warnings), Caution: recordCaution(record.ProvisionalNote)}
+		Site     *jsonSite          `json:"site"`
+	}{Units: UnitNames(c.Units), Gaugings: []jsonShiftGauging{}, Visits: []jsonVisit{}, Warnings: nonNil(c.Warnings), Caution: recordCaution(record.ProvisionalNote),
+		Site: siteJSON(c.Provenance.Site)}
 	for i, g := range c.Gaugings {
 		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
 			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
@@ -163,6 +165,7 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	u := c.Units
 	fmt.Fprintf(bw, "Gaugings against the ratings in force: %d measurements; %s units (gauge heights and shifts in %s, discharge in %s); times in %s\n",
 		len(c.Gaugings), u, u.Length(), u.Discharge(), zoneName(z))
+	bw.WriteString(siteLine(c.Provenance))
 	if len(c.Provenance.Inputs) > 0 {
 		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(c.Provenance.Inputs), programName(c.Provenance))
 	}

@@ -105,12 +105,13 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		Uncertainty    *jsonUncertainty  `json:"uncertainty"`
 		Warnings       []string          `json:"warnings"`
 		Caution        string            `json:"caution"`
+		Site           *jsonSite         `json:"site"`
 	}{
 		Method: r.Method, Discharge: Float(r.Discharge), Units: UnitNames(r.Units), Side: r.Side.String(),
 		Fall: Float(r.Fall), Length: Float(r.Length), Slope: Float(r.Slope),
 		SubreachMin: Float(r.SubreachMin), SubreachMax: Float(r.SubreachMax), SubreachSpread: Float(r.SubreachSpread),
 		Sections: []jsonSASection{}, Subreaches: []jsonSubreach{}, Checks: []jsonCheck{},
-		Warnings: rep.Warnings, Caution: rating.Caution,
+		Warnings: rep.Warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site),
 	}
 	if out.Warnings == nil {
 		out.Warnings = []string{}
@@ -186,6 +187,7 @@ func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 	} else {
 		line("%s units (lengths %s, discharge %s)", strings.ToUpper(u.String()), L, Q)
 	}
+	b.WriteString(siteLine(rep.Provenance))
 	line("")
 	line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
 	if un := rep.Uncertainty; un != nil {

@@ -59,6 +59,7 @@ type solveDischargeJSON struct {
 	PeakStage      Float             `json:"peak_discharge_stage"`
 	Warnings       []string          `json:"warnings"`
 	Caution        string            `json:"caution"`
+	Site           *jsonSite         `json:"site"`
 }
 
 // solveAreaJSON is the JSON of a solve report for a flow area.
@@ -74,6 +75,7 @@ type solveAreaJSON struct {
 	Full            bool              `json:"full"`
 	Warnings        []string          `json:"warnings"`
 	Caution         string            `json:"caution"`
+	Site            *jsonSite         `json:"site"`
 }
 
 // solveStageJSON is the JSON of a solve report for a stage.
@@ -86,6 +88,7 @@ type solveStageJSON struct {
 	UniformDischarge  Float             `json:"uniform_discharge"`
 	Warnings          []string          `json:"warnings"`
 	Caution           string            `json:"caution"`
+	Site              *jsonSite         `json:"site"`
 }
 
 // nullIfZero is a slope that was not given: null.
@@ -102,7 +105,8 @@ func nullIfZero(v float64) Float {
 // "caution"}; for a flow area {"section","units","area","stage","depth",
 // "top_width","wetted_perimeter","hydraulic_radius","full","warnings",
 // "caution"}; for a stage {"section","units","stage","critical_discharge",
-// "slope","uniform_discharge","warnings","caution"}. Keys come in that
+// "slope","uniform_discharge","warnings","caution"}; each ends with "site"
+// (what is known of the site, null when nothing). Keys come in that
 // order; undefined values are null.
 func WriteSolveJSON(w io.Writer, rep rating.SolveReport) error {
 	warnings := nonNil(rep.Warnings)
@@ -112,12 +116,12 @@ func WriteSolveJSON(w io.Writer, rep rating.SolveReport) error {
 		return writeJSON(w, solveAreaJSON{Section: rep.Section, Units: UnitNames(rep.Units), Area: Float(a.Area),
 			Stage: Float(a.Root.Stage), Depth: Float(a.Root.Depth), TopWidth: Float(a.TopWidth),
 			WettedPerimeter: Float(a.WettedPerimeter), HydraulicRadius: Float(a.HydraulicRadius), Full: a.Full,
-			Warnings: warnings, Caution: rating.Caution})
+			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site)})
 	case rep.Stage != nil:
 		a := rep.Stage
 		return writeJSON(w, solveStageJSON{Section: rep.Section, Units: UnitNames(rep.Units), Stage: Float(a.Stage),
 			CriticalDischarge: Float(a.CriticalDischarge), Slope: nullIfZero(rep.Slope), UniformDischarge: Float(a.UniformDischarge),
-			Warnings: warnings, Caution: rating.Caution})
+			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site)})
 	case rep.Discharge != nil:
 		return writeJSON(w, solveDischarge(rep, warnings))
 	}
@@ -137,7 +141,7 @@ func solveDischarge(rep rating.SolveReport, warnings []string) solveDischargeJSO
 		MinEnergyStage: Float(s.MinEnergy.Stage), MinEnergy: Float(s.MinEnergy.Energy),
 		ClosedConduit: s.Closed, FullDischarge: Float(s.FullDischarge),
 		PeakDischarge: Float(s.PeakDischarge), PeakStage: Float(s.PeakStage),
-		Warnings: warnings, Caution: rating.Caution,
+		Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site),
 	}
 	for i, n := range s.Normal {
 		var regime *string
@@ -179,6 +183,7 @@ func energyExtremum(c rating.CriticalRoot) string {
 // the hydraulics there, the warnings and the caution.
 func WriteSolveText(w io.Writer, rep rating.SolveReport) error {
 	bw := bufio.NewWriter(w)
+	bw.WriteString(siteLine(rep.Provenance))
 	u := rep.Units
 	switch {
 	case rep.Area != nil:

@@ -1,0 +1,46 @@
+package main
+
+import (
+	"strings"
+	"testing"
+)
+
+// Every command that writes a report takes --site and names the site in
+// the report, its text and its JSON alike; a survey's site key is used when
+// --site is not given.
+func TestSiteEverywhere(t *testing.T) {
+	t.Parallel()
+	const site = "Heron Weir gauge"
+	for _, args := range [][]string{
+		{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101", "--format", "text"},
+		{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101", "--format", "json"},
+		{"solve", demoSurveyPath, "--slope", "0.001", "--discharge", "10"},
+		{"solve", demoSurveyPath, "--slope", "0.001", "--discharge", "10", "--format", "json"},
+		{"fit", fitDemoGaugings, "--method", "lsq"},
+		{"fit", fitDemoGaugings, "--method", "lsq", "--format", "json"},
+		{"slopearea", "demodata/reach-brindle.csv", "--draws", "200"},
+		{"slopearea", "demodata/reach-brindle.csv", "--draws", "200", "--format", "json"},
+		{"backwater", bwPlain(t), "--discharges", "12", "--boundary", "critical"},
+		{"backwater", bwPlain(t), "--discharges", "12", "--boundary", "critical", "--format", "json"},
+		shiftsArgs(),
+		shiftsArgs("--format", "json"),
+		recordArgs(),
+		recordArgs("--format", "json"),
+		{"compare", recRatingA, recRatingB, "--zero-flow", "0.2"},
+		{"compare", recSectionA, recSectionB, "--step", "0.5", "--format", "json"},
+		{"project", larchCoords},
+		{"project", larchCoords, "--format", "json"},
+		{"shape", "trapezoid:bottom=4,side=2,height=2", "--n", "0.03"},
+		{"cowan", "--bed", "fine-gravel"},
+	} {
+		args = append(args, "--site", site)
+		out, errs, code := runCLI(t, args...)
+		if code != 0 || !strings.Contains(out, site) {
+			t.Errorf("%s: exit %d, site not named:\n%.400s\n%s", strings.Join(args, " "), code, out, errs)
+		}
+	}
+	out, errs, code := runCLI(t, "rate", larchCoords, "--slope", "0.003", "--stages", "94", "--format", "text")
+	if code != 0 || !strings.Contains(out, "Site: Larch Brook at the footbridge (invented) (id LB-02), surveyed 2026-10-03") {
+		t.Errorf("site key of the survey not reported: exit %d\n%s%s", code, out, errs)
+	}
+}
