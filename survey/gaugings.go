@@ -28,8 +28,9 @@ const (
 	ColGaugingExclude = "exclude"
 )
 
-// GaugingColumns returns the columns of a gaugings table in their usual
-// order, as the field workbook's gaugings sheet has them.
+// GaugingColumns returns the usual columns of a gaugings table in their
+// order (the field workbook's gaugings sheet adds uncertainty and exclude
+// before note).
 func GaugingColumns() []string {
 	return []string{ColGaugingTime, ColGaugingStage, ColGaugingDischarge, ColGaugingQuality, ColNote}
 }

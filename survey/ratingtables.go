@@ -59,6 +59,11 @@ type RatingTables struct {
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Units is what the stage and discharge headers say of the unit
+	// system ("stage (ft)", "discharge (ft3/s)"); the caller resolves it
+	// against the units asked for (UnitNote.Resolve). Stages, ZeroFlow,
+	// HighGauging and Datum are in that system: nothing is converted.
+	Units UnitNote
 }
 
 // ErrValidFromBlank is the cause of a first rating row without a time in a
@@ -90,8 +95,10 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // keeps), or, when the table has a valid_from column, one rating per
 // valid_from time (a blank valid_from continues the rating above). Rows
 // must ascend in stage with discharge rising once above zero (see
-// gauged.RatingTable.Validate); periods must ascend in time. Every bad
-// cell is reported with its position.
+// gauged.RatingTable.Validate); periods must ascend in time. Units written
+// in the stage and discharge headers are reported in Units; an unknown
+// unit (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an
+// error at the column. Every bad cell is reported with its position.
 func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, error) {
 	out := RatingTables{File: t.File, Sheet: t.Sheet}
 	off, err := checkOffset(opt.UTCOffset)
@@ -104,6 +111,9 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	}
 	cq, err := t.Require(ColRatingDischarge)
 	if err != nil {
+		return out, err
+	}
+	if out.Units, err = t.HeaderUnits(cs, cq); err != nil {
 		return out, err
 	}
 	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)

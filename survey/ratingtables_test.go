@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
@@ -117,5 +118,63 @@ func TestRatingNameAtOffset(t *testing.T) {
 	}
 	if got := rt.Periods[0].Rating.Name; got != "r8.csv from 2025-02-18T06:00:00+10:00" {
 		t.Errorf("name %q", got)
+	}
+}
+
+// Units written in a rating table's stage and discharge headers are
+// reported, to be resolved by the caller; other columns' headers are not
+// read; units of two systems, or an unknown unit, are refused at the
+// column.
+func TestRatingTableHeaderUnits(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, header string
+		found        bool
+		units        rating.Units
+		text         string
+		at           string // position of the first column naming a unit
+	}{
+		{"none", "stage,discharge", false, rating.SI, "", ""},
+		{"feet", "stage (ft),discharge (ft3/s)", true, rating.US, "ft", "r.csv:1:1"},
+		{"cfs only", "gauge_height,discharge [cfs]", true, rating.US, "cfs", "r.csv:1:2"},
+		{"metres", "Stage (m),Discharge (m3/s),area (ft2)", true, rating.SI, "m", "r.csv:1:1"},
+		{"other columns unread", "stage,discharge,lower_95 (furlongs)", false, rating.SI, "", ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rs, err := ParseRatingTables(strings.NewReader(tc.header+"\n0.5,1,1\n1,3,3\n"), "r.csv", RatingTableOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			u := rs.Units
+			if u.Found != tc.found || (u.Found && (u.Units != tc.units || u.Text != tc.text || u.At.Position() != tc.at)) {
+				t.Errorf("units %+v, want found %v %v %q at %s", u, tc.found, tc.units, tc.text, tc.at)
+			}
+			// Resolved as the commands do: without --units the headers
+			// decide; --units of the other system is refused.
+			if got, err := u.Resolve(rating.SI, false); err != nil || got != tc.units {
+				t.Errorf("resolved without --units: %v %v, want %v", got, err, tc.units)
+			}
+			other := rating.US
+			if tc.units == rating.US {
+				other = rating.SI
+			}
+			_, err = u.Resolve(other, true)
+			if tc.found != (err != nil) || (err != nil && (!errors.Is(err, ErrUnitsDisagree) || !strings.Contains(err.Error(), tc.at) ||
+				!strings.Contains(err.Error(), tc.text) || !strings.Contains(err.Error(), other.String()+" units"))) {
+				t.Errorf("resolved with %v given: %v", other, err)
+			}
+		})
+	}
+	for _, tc := range []struct {
+		name, header, at string
+		is               error
+	}{
+		{"mixed", "stage (ft),discharge (m3/s)", "r.csv:1:2: discharge (m3/s)", ErrMixedUnits},
+		{"unknown", "stage (furlongs),discharge", "r.csv:1:1: stage (furlongs)", ErrUnknownUnit},
+	} {
+		_, err := ParseRatingTables(strings.NewReader(tc.header+"\n0.5,1\n1,3\n"), "r.csv", RatingTableOptions{})
+		if !errors.Is(err, tc.is) || !strings.Contains(err.Error(), tc.at) {
+			t.Errorf("%s: %v, want %v at %s", tc.name, err, tc.is, tc.at)
+		}
 	}
 }

@@ -134,11 +134,16 @@ const fuzzFallTol = 1e-12
 // in testdata/fuzz/FuzzParseRatingTables.
 func FuzzParseRatingTables(f *testing.F) {
 	f.Add("stage,discharge\n0.5,1\n1,3\n", 0.2, true)
+	f.Add("Stage (ft),discharge [cfs],lower_95 (ft3/s)\n0.5,1,0.9\n1,3,2.8\n", math.NaN(), false)
+	f.Add("stage (ft),discharge (m3/s)\n0.5,1\n", math.NaN(), false)
 	f.Fuzz(func(t *testing.T, in string, e float64, extrapolate bool) {
 		rs, err := ParseRatingTables(strings.NewReader(in), "f.csv", RatingTableOptions{HasZeroFlow: !math.IsNaN(e), ZeroFlow: e, Extrapolate: extrapolate})
 		checkPositioned(t, err, "f.csv")
 		if err != nil {
 			return
+		}
+		if u := rs.Units; u.Found && (u.At == nil || u.At.Column < 1 || u.Text == "") {
+			t.Fatalf("header units %+v without their column", u)
 		}
 		r, err := gauged.History{Periods: rs.Periods}.Compile()
 		if err != nil {

@@ -494,7 +494,8 @@ func SectionSheets(path string) ([]string, error) {
 	return out, nil
 }
 
-// hasSurveyHeader reports whether the first non-blank row of a sheet names
+// hasSurveyHeader reports whether the header of a sheet, its first
+// non-blank row below the key rows of its site block (see metaRow), names
 // station (or easting and northing) and elevation columns.
 func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 	rows, err := f.Rows(sheet)
@@ -507,7 +508,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		if err != nil {
 			return false, err
 		}
-		if blank(rec) {
+		if _, _, meta := metaRow(rec); blank(rec) || meta {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}

@@ -1,10 +1,13 @@
 package survey
 
 import (
+	"bytes"
 	"fmt"
 	"io"
 	"strconv"
 	"strings"
+
+	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
 	"wetline/survey/workbook"
@@ -23,8 +26,9 @@ type TemplateOptions struct {
 	// many as it has points.
 	Rows int
 	// Surveys prefill the first cross-section sheets, one survey each
-	// (points, n, bank marks, labels, notes), for a crew to check or
-	// re-survey. A sheet is named after its section when that is a usable
+	// (points, n, bank marks, labels, notes, and its Site in the site
+	// block), for a crew to check or re-survey; their headers' units must
+	// be Units. A sheet is named after its section when that is a usable
 	// sheet name, else XS-i. There are max(Sections, len(Surveys)) sheets.
 	Surveys []Survey
 }
@@ -39,18 +43,26 @@ const (
 
 // Sheet names of a field workbook besides the cross-sections.
 const (
+	// FieldSheetCoordinates is the blank cross-section sheet for a survey
+	// by eastings and northings (total station or GNSS).
+	FieldSheetCoordinates  = "coordinates"
 	FieldSheetReach        = "reach"
 	FieldSheetGaugings     = "gaugings"
 	FieldSheetInstructions = "instructions"
 )
 
+// SectionHeaderRow is the 1-based row of the column headers on the field
+// workbook's cross-section and coordinate sheets: below the site block,
+// which holds one key row per metadata key (MetaKeys), data from the row
+// after. The reach and gaugings sheets have their headers in row 1.
+const SectionHeaderRow = 6
+
 // SectionSheetName names the i-th (1-based) cross-section sheet: "XS-1".
 func SectionSheetName(i int) string { return fmt.Sprintf("XS-%d", i) }
 
 // SuggestedMarks returns the labels offered in the mark column's
-// drop-down list. Only
-// MarkBank means anything to the reader; any other label may be typed and
-// is kept with the point.
+// drop-down list of a cross-section sheet. Only MarkBank means anything
+// to the reader; any other label may be typed and is kept with the point.
 func SuggestedMarks() []string {
 	return []string{MarkBank, "thalweg", "water edge", "pin", "high-water mark"}
 }
@@ -65,12 +77,21 @@ const (
 )
 
 // WriteTemplate writes a blank field workbook to w: cross-section sheets
-// XS-1 … XS-n (station, elevation, n, mark, note), a reach sheet (section,
-// survey, distance, ws_left, ws_right, quality, note), a gaugings sheet
-// (time, stage, discharge, quality, note) and an instructions sheet, on
-// which the workbook opens. Headers are in row 1, styled and frozen, with
+// XS-1 … XS-n (station, elevation, n, mark, note), a coordinate sheet
+// (easting, northing, elevation, n, mark, note), a reach sheet (section,
+// survey, distance, ws_left, ws_right, quality, the flow lengths
+// left_length, channel_length, right_length, structure, note), a gaugings
+// sheet (time, stage, discharge, quality, uncertainty, exclude, note) and
+// an instructions sheet, on which the workbook opens. The cross-section
+// and coordinate sheets start with a site block, a key and a value per
+// row for each of MetaKeys (filled from a prefilled survey's Site), with
+// their headers below it in SectionHeaderRow; the reach and gaugings
+// sheets have their headers in row 1. Headers are styled and frozen, with
 // units in brackets; cells below carry validation rules and drop-down
-// lists. Every sheet reads back through ReadTable.
+// lists. Every sheet reads back through ReadTable, the cross-section and
+// coordinate sheets through ReadSection with their site in Survey.Site.
+// A prefilled survey whose headers name a unit system other than Units is
+// refused (ErrUnitsDisagree).
 func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if opt.Sections == 0 {
 		opt.Sections = DefaultTemplateSections
@@ -85,20 +106,33 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if opt.Rows < 1 || opt.Rows > MaxTemplateRows {
 		return fmt.Errorf("template: %d rows: want 1 to %d", opt.Rows, MaxTemplateRows)
 	}
+	for _, sv := range opt.Surveys {
+		if _, err := sv.Units.Resolve(opt.Units, true); err != nil {
+			return err
+		}
+	}
 	b := workbook.NewBook()
 	defer b.Close()
 	b.Title = "wetline field workbook"
 	b.Footer = rating.Caution
 	names := sectionSheetNames(opt)
+	var blocks []siteBlock
 	for i, name := range names {
 		var data [][]any
+		blk := siteBlock{sheet: name, columns: len(sectionColumns(opt.Units))}
 		if i < len(opt.Surveys) {
 			data = surveyRows(opt.Surveys[i])
+			blk.site = opt.Surveys[i].Site
 		}
 		if err := b.InputSheet(name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
 			return err
 		}
+		blocks = append(blocks, blk)
 	}
+	if err := b.InputSheet(FieldSheetCoordinates, coordinateSheetColumns(opt.Units), opt.Rows, nil); err != nil {
+		return err
+	}
+	blocks = append(blocks, siteBlock{sheet: FieldSheetCoordinates, columns: len(coordinateSheetColumns(opt.Units))})
 	if err := b.InputSheet(FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
@@ -115,7 +149,124 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	}, FieldSheetInstructions); err != nil {
 		return err
 	}
-	return b.Write(w)
+	st, err := siteStyles(b)
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := b.Write(&buf); err != nil {
+		return err
+	}
+	return writeSiteBlocks(w, buf.Bytes(), blocks, st)
+}
+
+// siteBlock is a sheet that gets a site block above its table: its name,
+// its number of columns and the site to fill in (zero: blank values).
+type siteBlock struct {
+	sheet   string
+	columns int
+	site    rating.Site
+}
+
+// blockStyles are the cell styles of a site block: keys as labels, values
+// as text a crew fills in.
+type blockStyles struct {
+	key, value int
+}
+
+// siteStyles makes the styles of the site blocks in b's style table.
+func siteStyles(b *workbook.Book) (blockStyles, error) {
+	var st blockStyles
+	var err error
+	if st.key, err = b.LabelStyle(); err != nil {
+		return st, err
+	}
+	st.value, err = b.InputStyle(workbook.FormatText)
+	return st, err
+}
+
+// writeSiteBlocks writes the workbook held in data to w with a site block
+// inserted above the table of each sheet of blocks: the rows below move
+// down with their validation rules, row heights and print titles, and the
+// panes are frozen below the header again. The styles were made in the
+// workbook before it was written (cell style ids survive the round trip).
+func writeSiteBlocks(w io.Writer, data []byte, blocks []siteBlock, st blockStyles) error {
+	f, err := excelize.OpenReader(bytes.NewReader(data))
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	for _, blk := range blocks {
+		if err := insertSiteBlock(f, blk, st); err != nil {
+			return fmt.Errorf("template: sheet %s: %w", blk.sheet, err)
+		}
+	}
+	_, err = f.WriteTo(w)
+	return err
+}
+
+// siteValues returns a site's values by metadata key (see MetaKeys).
+func siteValues(s rating.Site) map[string]string {
+	return map[string]string{MetaSite: s.Name, MetaSiteID: s.ID, MetaSurveyed: s.Surveyed, MetaDatum: s.Datum, MetaCrew: s.Crew}
+}
+
+// siteHelp returns the prompt shown on a metadata key's value cell.
+func siteHelp(key string) string {
+	switch key {
+	case MetaSite:
+		return "the site's name: river and place"
+	case MetaSiteID:
+		return "the number or code the site is filed under"
+	case MetaSurveyed:
+		return "date of the survey, yyyy-mm-dd (kept as text)"
+	case MetaDatum:
+		return "the datum of the elevations: benchmark and its elevation, or the gauge datum"
+	case MetaCrew:
+		return "who surveyed, and with which instrument"
+	}
+	return ""
+}
+
+// insertSiteBlock inserts the rows of a site block at the top of a sheet:
+// the key in column A, its value in B merged across the other columns.
+func insertSiteBlock(f *excelize.File, blk siteBlock, st blockStyles) error {
+	keys := MetaKeys()
+	if err := f.InsertRows(blk.sheet, 1, len(keys)); err != nil {
+		return err
+	}
+	last, err := excelize.ColumnNumberToName(max(blk.columns, 2))
+	if err != nil {
+		return err
+	}
+	values := siteValues(blk.site)
+	for i, k := range keys {
+		row := strconv.Itoa(i + 1)
+		if err := f.SetCellStr(blk.sheet, "A"+row, k); err != nil {
+			return err
+		}
+		if err := f.SetCellStyle(blk.sheet, "A"+row, "A"+row, st.key); err != nil {
+			return err
+		}
+		if v := values[k]; v != "" {
+			if err := f.SetCellStr(blk.sheet, "B"+row, v); err != nil {
+				return err
+			}
+		}
+		if err := f.SetCellStyle(blk.sheet, "B"+row, last+row, st.value); err != nil {
+			return err
+		}
+		if err := f.MergeCell(blk.sheet, "B"+row, last+row); err != nil {
+			return err
+		}
+		dv := excelize.NewDataValidation(true)
+		dv.Sqref = "B" + row
+		dv.SetInput(k, siteHelp(k))
+		if err := f.AddDataValidation(blk.sheet, dv); err != nil {
+			return err
+		}
+	}
+	return f.SetPanes(blk.sheet, &excelize.Panes{Freeze: true, YSplit: SectionHeaderRow,
+		TopLeftCell: "A" + strconv.Itoa(SectionHeaderRow+1), ActivePane: "bottomLeft"})
 }
 
 // sectionSheetNames names the cross-section sheets: a prefilled sheet
@@ -123,8 +274,8 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 func sectionSheetNames(opt TemplateOptions) []string {
 	used := map[string]bool{
 		strings.ToLower(FieldSheetReach): true, strings.ToLower(FieldSheetGaugings): true,
-		strings.ToLower(FieldSheetInstructions): true,
-		"history":                               true, // reserved by spreadsheet programs
+		strings.ToLower(FieldSheetInstructions): true, strings.ToLower(FieldSheetCoordinates): true,
+		"history": true, // reserved by spreadsheet programs
 	}
 	names := make([]string, opt.Sections)
 	for i := range names {
@@ -214,31 +365,80 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 	}
 }
 
+// coordinateSheetColumns are the columns of the coordinate sheet: a
+// survey by eastings and northings, read as ReadSection projects it.
+func coordinateSheetColumns(u rating.Units) []workbook.InputColumn {
+	L := u.Length()
+	grid := fmt.Sprintf("a grid coordinate in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
+	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-templateCoordMax), plainNumber(templateCoordMax))
+	return []workbook.InputColumn{
+		{Column: workbook.Column{Name: ColEasting, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid easting of the point"},
+		{Column: workbook.Column{Name: ColNorthing, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid northing of the point"},
+		{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "ground elevation above the gauge datum"},
+		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
+			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next point surveyed; blank repeats the value above"},
+		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedCoordinateMarks(), false, ""),
+			Help: "left pin and right pin: the end pins of the section line, left and right looking downstream (one each); bank: a main-channel limit (two per section)"},
+		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
+	}
+}
+
+// SuggestedCoordinateMarks returns the labels offered in the mark column
+// of the coordinate sheet: the end pins (MarkLeftPin, MarkRightPin), which
+// fix the section line and its left end, MarkBank, and labels kept with
+// the point.
+func SuggestedCoordinateMarks() []string {
+	return []string{MarkLeftPin, MarkRightPin, MarkBank, "thalweg", "water edge", "high-water mark"}
+}
+
+// suggestedStructures returns the words offered in the reach sheet's structure
+// column; any text there marks a structure.
+func suggestedStructures() []string { return []string{"bridge", "culvert", "weir"} }
+
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
+	length := fmt.Sprintf("a flow length in %s, zero or more, with a decimal point", L)
+	lengthHelp := func(path string) string {
+		return "length of the flow path along the " + path + " to the next section downstream; blank: the distance between the sections"
+	}
+	quality := listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", "))
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: ReachColumns()[0], Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
-		{Column: workbook.Column{Name: ReachColumns()[1], Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
-		{Column: workbook.Column{Name: ReachColumns()[2], Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
-		{Column: workbook.Column{Name: ReachColumns()[3], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
-		{Column: workbook.Column{Name: ReachColumns()[4], Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
-		{Column: workbook.Column{Name: ReachColumns()[5], Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "how well the marks define the water surface"},
-		{Column: workbook.Column{Name: ReachColumns()[6], Format: workbook.FormatText, Width: 36}},
+		{Column: workbook.Column{Name: ReachColSection, Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
+		{Column: workbook.Column{Name: ReachColSurvey, Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
+		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
+		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
+		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
+		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: quality, Help: "how well the marks define the water surface"},
+		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("left overbank")},
+		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("main channel")},
+		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("right overbank")},
+		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(suggestedStructures(), false, ""),
+			Help: "blank for an open channel; name a structure at the section (bridge, culvert, weir): wetline refuses to compute flow through it"},
+		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
+
+// Bounds of the gaugings sheet's uncertainty rule. The reader takes
+// percentages strictly between 0 and MaxUncertaintyPercent; a spreadsheet
+// rule bounds a closed interval, so the rule's ends sit this far inside.
+const templateOpenEnd = 1e-9 // percent
 
 func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	L, Q := u.Length(), u.Discharge()
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: GaugingColumns()[0], Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
+		{Column: workbook.Column{Name: ColGaugingTime, Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
 			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
-		{Column: workbook.Column{Name: GaugingColumns()[1], Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
+		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
 			fmt.Sprintf("a gauge height in %s, with a decimal point", L)), Help: "mean gauge height during the measurement"},
-		{Column: workbook.Column{Name: GaugingColumns()[2], Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
+		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
 			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
-		{Column: workbook.Column{Name: GaugingColumns()[3], Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},
-		{Column: workbook.Column{Name: GaugingColumns()[4], Format: workbook.FormatText, Width: 36}},
+		{Column: workbook.Column{Name: ColGaugingQuality, Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},
+		{Column: workbook.Column{Name: ColGaugingUncertainty, Unit: "%", Format: "0.0", Width: 15}, Rule: decimalRule(templateOpenEnd, MaxUncertaintyPercent-templateOpenEnd, true,
+			fmt.Sprintf("a percentage above 0 and below %g", MaxUncertaintyPercent)),
+			Help: "expanded uncertainty of the discharge at the 95 % level, in percent; blank: the band of the quality grade"},
+		{Column: workbook.Column{Name: ColGaugingExclude, Format: workbook.FormatText, Width: 24}, Help: "any text leaves the gauging out of rating fits and is shown as the reason; blank keeps it"},
+		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
 
@@ -247,20 +447,32 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 	u := opt.Units
 	L, Q := u.Length(), u.Discharge()
 	lines := [][2]string{
-		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet, the reach and its high-water marks, and discharge measurements. " +
-			"Fill the cream cells; keep the header row (row 1) as it is. Blank rows are skipped; extra columns to the right are kept but not read."},
+		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet (or by grid coordinates on the coordinates sheet), " +
+			"the reach and its high-water marks, and discharge measurements. " +
+			"Fill the cream cells; keep the header rows as they are. Blank rows are skipped; extra columns to the right are kept but not read."},
+		{"site block", fmt.Sprintf("The first %d rows of each cross-section and coordinate sheet name the site: %s. "+
+			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points below them.",
+			len(MetaKeys()), strings.Join(MetaKeys(), ", "), SectionHeaderRow)},
 		{"units", fmt.Sprintf("Lengths, stations and elevations in %s; discharge in %s; Manning's n as usual (the same number in every unit system). "+
-			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: say which in a note.", L, Q)},
+			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: name it in the site block.", L, Q)},
 		{strings.Join(names, ", "), "One sheet per cross-section, points from the left end to the right end looking downstream. " +
 			"station: distance from the left pin; it never decreases (no overhangs). elevation: ground elevation. " +
 			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
 			"mark: 'bank' on exactly the two points that bound the main channel; other labels (thalweg, pin, water edge, ...) are kept as labels. " +
 			"Add sheets by copying one; the sheet name is the section's name."},
-		{FieldSheetReach, "One row per section of a slope-area reach. section: its id; survey: the sheet (or file) with its survey; " +
+		{FieldSheetCoordinates, "A cross-section surveyed by total station or GNSS: easting, northing and elevation of each point, in the order surveyed. " +
+			"wetline projects the points onto the section line to make stations. mark: '" + MarkLeftPin + "' and '" + MarkRightPin + "' on the end pins " +
+			"(left and right looking downstream) fix the line and its left end; without them the line is fitted through the points and the left end is the first point surveyed (or told by the flow direction given to wetline). " +
+			"n: Manning's n from this point to the next point surveyed; 'bank' as on the XS sheets. Rename the sheet to the section's name."},
+		{FieldSheetReach, "One row per section of a reach. section: its id; survey: the sheet (or file) with its survey; " +
 			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
-			"on each bank from the high-water marks; quality: " + strings.Join(rating.QualityWords(), ", ") + "."},
+			"on each bank from the high-water marks (for a slope-area reach); quality: " + strings.Join(rating.QualityWords(), ", ") + ". " +
+			"left_length, channel_length, right_length: lengths of the flow paths along the left overbank, the channel and the right overbank to the next section " +
+			"(blank: the distance between the sections). structure: blank for an open channel; flow through a bridge, culvert or weir is refused, not approximated."},
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
-			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + ")."},
+			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + "); " +
+			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +
+			"exclude: any text leaves the gauging out of rating fits and is shown as the reason."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
 		{"caution", rating.Caution},
 	}
@@ -286,7 +498,7 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 
 // WriteSurveySheet writes a survey as a table sheet with the columns of a
 // field workbook's cross-section sheet (see WriteTemplate), readable by
-// ReadSection. It lives here, beside the template, so that the
+// ReadSection, its header in row 1 (no site block). It lives here, beside the template, so that the
 // two never disagree.
 func WriteSurveySheet(b *workbook.Book, name string, sv Survey, u rating.Units) error {
 	cols := sectionColumns(u)

@@ -3,6 +3,8 @@ package survey_test
 import (
 	"bytes"
 	"errors"
+	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	"slices"
@@ -42,6 +44,15 @@ func openBook(t *testing.T, path string) *excelize.File {
 	return f
 }
 
+// headerRow returns the row of a field workbook sheet's column headers.
+func headerRow(sheet string) int {
+	switch sheet {
+	case survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions:
+		return 1
+	}
+	return survey.SectionHeaderRow
+}
+
 func TestTemplateSheets(t *testing.T) {
 	for _, tc := range []struct {
 		name     string
@@ -51,13 +62,13 @@ func TestTemplateSheets(t *testing.T) {
 		gauging  []string
 	}{
 		{"default SI", survey.TemplateOptions{},
-			[]string{"XS-1", "XS-2", "XS-3", "reach", "gaugings", "instructions"},
+			[]string{"XS-1", "XS-2", "XS-3", "coordinates", "reach", "gaugings", "instructions"},
 			[]string{"station (m)", "elevation (m)", "n", "mark", "note"},
-			[]string{"time", "stage (m)", "discharge (m3/s)", "quality", "note"}},
+			[]string{"time", "stage (m)", "discharge (m3/s)", "quality", "uncertainty (%)", "exclude", "note"}},
 		{"one section, US", survey.TemplateOptions{Sections: 1, Units: rating.US, Rows: 20},
-			[]string{"XS-1", "reach", "gaugings", "instructions"},
+			[]string{"XS-1", "coordinates", "reach", "gaugings", "instructions"},
 			[]string{"station (ft)", "elevation (ft)", "n", "mark", "note"},
-			[]string{"time", "stage (ft)", "discharge (ft3/s)", "quality", "note"}},
+			[]string{"time", "stage (ft)", "discharge (ft3/s)", "quality", "uncertainty (%)", "exclude", "note"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			f := openBook(t, writeTemplate(t, tc.opt))
@@ -73,32 +84,42 @@ func TestTemplateSheets(t *testing.T) {
 			}
 			L := tc.opt.Units.Length()
 			headers := map[string][]string{
-				"XS-1":     tc.xsHeader,
-				"reach":    {"section", "survey", "distance (" + L + ")", "ws_left (" + L + ")", "ws_right (" + L + ")", "quality", "note"},
+				"XS-1":        tc.xsHeader,
+				"coordinates": {"easting (" + L + ")", "northing (" + L + ")", "elevation (" + L + ")", "n", "mark", "note"},
+				"reach": {"section", "survey", "distance (" + L + ")", "ws_left (" + L + ")", "ws_right (" + L + ")", "quality",
+					"left_length (" + L + ")", "channel_length (" + L + ")", "right_length (" + L + ")", "structure", "note"},
 				"gaugings": tc.gauging,
 			}
 			// Validation rules by sheet: type per column letter.
 			rules := map[string]map[string]string{
-				"XS-1":     {"A": "decimal", "B": "decimal", "C": "decimal", "D": "list"},
-				"reach":    {"C": "decimal", "D": "decimal", "E": "decimal", "F": "list"},
-				"gaugings": {"A": "date", "B": "decimal", "C": "decimal", "D": "list"},
+				"XS-1":        {"A": "decimal", "B": "decimal", "C": "decimal", "D": "list"},
+				"coordinates": {"A": "decimal", "B": "decimal", "C": "decimal", "D": "decimal", "E": "list"},
+				"reach":       {"C": "decimal", "D": "decimal", "E": "decimal", "F": "list", "G": "decimal", "H": "decimal", "I": "decimal", "J": "list"},
+				"gaugings":    {"A": "date", "B": "decimal", "C": "decimal", "D": "list", "E": "decimal"},
 			}
 			for sheet, want := range headers {
+				hr := headerRow(sheet)
 				got, err := f.GetRows(sheet)
 				if err != nil {
 					t.Fatal(err)
 				}
-				if len(got) != 1 || !slices.Equal(got[0], want) {
-					t.Errorf("%s: rows %q, want only the header %q", sheet, got, want)
+				if len(got) != hr || !slices.Equal(got[hr-1], want) {
+					t.Errorf("%s: rows %q, want only the header %q in row %d", sheet, got, want, hr)
+					continue
+				}
+				for i, k := range survey.MetaKeys()[:hr-1] {
+					if !slices.Equal(got[i], []string{k}) {
+						t.Errorf("%s: row %d %q, want the key %q", sheet, i+1, got[i], k)
+					}
 				}
 				panes, err := f.GetPanes(sheet)
 				if err != nil {
 					t.Fatal(err)
 				}
-				if !panes.Freeze || panes.YSplit != 1 {
+				if !panes.Freeze || panes.YSplit != hr {
 					t.Errorf("%s: header not frozen: %+v", sheet, panes)
 				}
-				style, err := f.GetCellStyle(sheet, "A1")
+				style, err := f.GetCellStyle(sheet, "A"+strconv.Itoa(hr))
 				if err != nil {
 					t.Fatal(err)
 				}
@@ -120,10 +141,14 @@ func TestTemplateSheets(t *testing.T) {
 					t.Fatal(err)
 				}
 				found := map[string]*excelize.DataValidation{}
+				first, last := strconv.Itoa(hr+1)+":", strconv.Itoa(hr+rows)
 				for _, dv := range dvs {
-					found[strings.SplitN(dv.Sqref, "2:", 2)[0]] = dv
-					if !strings.HasSuffix(dv.Sqref, "2:"+dv.Sqref[:1]+strconv.Itoa(rows+1)) {
-						t.Errorf("%s: rule on %s, want rows 2 to %d", sheet, dv.Sqref, rows+1)
+					if hr > 1 && !strings.Contains(dv.Sqref, ":") {
+						continue // a site block cell, checked in TestTemplateSiteBlock
+					}
+					found[strings.SplitN(dv.Sqref, first, 2)[0]] = dv
+					if !strings.HasSuffix(dv.Sqref, first+dv.Sqref[:1]+last) {
+						t.Errorf("%s: rule on %s, want rows %d to %d", sheet, dv.Sqref, hr+1, hr+rows)
 					}
 				}
 				for col, typ := range rules[sheet] {
@@ -139,19 +164,29 @@ func TestTemplateSheets(t *testing.T) {
 			}
 			// Drop-down lists: marks suggest (no error alert: free labels
 			// allowed); qualities are strict.
-			dvs, _ := f.GetDataValidations("XS-1")
-			for _, dv := range dvs {
-				if dv.Type == "list" {
-					if !strings.Contains(dv.Formula1, "bank") || dv.ShowErrorMessage {
-						t.Errorf("mark list %q, error alert %v: want bank and free labels", dv.Formula1, dv.ShowErrorMessage)
+			for sheet, want := range map[string]string{"XS-1": "bank", "coordinates": "left pin,right pin,bank"} {
+				dvs, _ := f.GetDataValidations(sheet)
+				for _, dv := range dvs {
+					if dv.Type == "list" {
+						if !strings.Contains(dv.Formula1, want) || dv.ShowErrorMessage {
+							t.Errorf("%s: mark list %q, error alert %v: want %s and free labels", sheet, dv.Formula1, dv.ShowErrorMessage, want)
+						}
 					}
 				}
 			}
-			dvs, _ = f.GetDataValidations("gaugings")
+			dvs, _ := f.GetDataValidations("gaugings")
 			for _, dv := range dvs {
-				if dv.Type == "list" {
+				switch {
+				case dv.Type == "list":
 					if dv.Formula1 != `"excellent,good,fair,poor"` || !dv.ShowErrorMessage {
 						t.Errorf("quality list %q, error alert %v", dv.Formula1, dv.ShowErrorMessage)
+					}
+				case strings.HasPrefix(dv.Sqref, "E"):
+					// The reader takes uncertainties strictly between 0 and 100 %.
+					lo, _ := strconv.ParseFloat(dv.Formula1, 64)
+					hi, _ := strconv.ParseFloat(dv.Formula2, 64)
+					if !(lo > 0 && lo < 1e-6 && hi < survey.MaxUncertaintyPercent && hi > survey.MaxUncertaintyPercent-1e-6) || !dv.ShowErrorMessage {
+						t.Errorf("uncertainty rule %q to %q, error alert %v", dv.Formula1, dv.Formula2, dv.ShowErrorMessage)
 					}
 				}
 			}
@@ -163,7 +198,8 @@ func TestTemplateSheets(t *testing.T) {
 			for _, r := range instr {
 				text += strings.Join(r, " ") + "\n"
 			}
-			for _, want := range []string{rating.Caution, L, tc.opt.Units.Discharge(), "bank"} {
+			for _, want := range []string{rating.Caution, L, tc.opt.Units.Discharge(), "bank", "left pin", "uncertainty", "exclude",
+				"channel_length", "structure", "site id"} {
 				if !strings.Contains(text, want) {
 					t.Errorf("instructions lack %q", want)
 				}
@@ -177,15 +213,17 @@ func TestTemplateSheets(t *testing.T) {
 func TestTemplateEmptyReads(t *testing.T) {
 	path := writeTemplate(t, survey.TemplateOptions{})
 	for sheet, cols := range map[string][]string{
-		"XS-2":     {"station", "elevation", "n", "mark", "note"},
-		"reach":    {"section", "survey", "distance", "ws_left", "ws_right", "quality", "note"},
-		"gaugings": {"time", "stage", "discharge", "quality", "note"},
+		"XS-2":        {"station", "elevation", "n", "mark", "note"},
+		"coordinates": {"easting", "northing", "elevation", "n", "mark", "note"},
+		"reach": {"section", "survey", "distance", "ws_left", "ws_right", "quality",
+			"left_length", "channel_length", "right_length", "structure", "note"},
+		"gaugings": {"time", "stage", "discharge", "quality", "uncertainty", "exclude", "note"},
 	} {
 		tab, err := survey.ReadTable(path, sheet)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if tab.HeaderRow != 1 || len(tab.Records) != 0 {
+		if tab.HeaderRow != headerRow(sheet) || len(tab.Records) != 0 {
 			t.Errorf("%s: header row %d, %d records", sheet, tab.HeaderRow, len(tab.Records))
 		}
 		for i, c := range cols {
@@ -194,9 +232,16 @@ func TestTemplateEmptyReads(t *testing.T) {
 			}
 		}
 	}
-	_, err := survey.ReadSection(path, "XS-1", survey.SectionOptions{})
-	if !errors.Is(err, subdivide.ErrTooFewPoints) {
-		t.Errorf("blank section: %v, want ErrTooFewPoints", err)
+	for _, sheet := range []string{"XS-1", "coordinates"} {
+		_, err := survey.ReadSection(path, sheet, survey.SectionOptions{})
+		if !errors.Is(err, subdivide.ErrTooFewPoints) {
+			t.Errorf("blank %s: %v, want ErrTooFewPoints", sheet, err)
+		}
+	}
+	// The site blocks do not hide the surveys' headers.
+	got, err := survey.SectionSheets(path)
+	if want := []string{"XS-1", "XS-2", "XS-3", "coordinates"}; err != nil || !slices.Equal(got, want) {
+		t.Errorf("section sheets %q %v, want %q", got, err, want)
 	}
 }
 
@@ -208,7 +253,7 @@ func TestTemplateOptionsBounds(t *testing.T) {
 	}
 }
 
-// fillSheet writes rows of values from A2 down.
+// fillSheet writes rows of values from row startRow down.
 func fillSheet(t *testing.T, f *excelize.File, sheet string, startRow int, rows [][]any) {
 	t.Helper()
 	for i, r := range rows {
@@ -228,10 +273,11 @@ func TestFilledTemplateReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := f.SetCellValue("XS-2", "F1", "crew"); err != nil { // extra column
+	hr := survey.SectionHeaderRow
+	if err := f.SetCellValue("XS-2", "F"+strconv.Itoa(hr), "crew"); err != nil { // extra column
 		t.Fatal(err)
 	}
-	fillSheet(t, f, "XS-2", 2, [][]any{
+	fillSheet(t, f, "XS-2", hr+1, [][]any{
 		{0.0, 10.5, 0.05, "", "left pin", "AB"},
 		{"4.0", "9.25", nil, "bank", "", "AB"}, // numbers stored as text
 		{},                                     // blank row
@@ -267,8 +313,8 @@ func TestFilledTemplateReads(t *testing.T) {
 	if want := []float64{0.05, 0.05, 0.035, 0.06}; !slices.Equal(sv.Section.N, want) {
 		t.Errorf("n %v, want %v", sv.Section.N, want)
 	}
-	if want := []int{2, 3, 5, 6, 7}; !slices.Equal(sv.Rows, want) {
-		t.Errorf("rows %v, want %v (row 4 blank)", sv.Rows, want)
+	if want := []int{hr + 1, hr + 2, hr + 4, hr + 5, hr + 6}; !slices.Equal(sv.Rows, want) {
+		t.Errorf("rows %v, want %v (row %d blank)", sv.Rows, want, hr+3)
 	}
 	if sv.Section.Name != "XS-2" || sv.Labels[2] != "thalweg" {
 		t.Errorf("name %q, labels %q", sv.Section.Name, sv.Labels)
@@ -311,9 +357,9 @@ func TestWorkbookCellErrors(t *testing.T) {
 	for i := range rows {
 		rows[i] = []any{float64(i), 100 - float64(i%3), 0.04}
 	}
-	rows[12][2] = "0,04" // C14: decimal comma
-	rows[5][1] = "1O2.5" // B7: letter O for zero
-	fillSheet(t, f, "XS-2", 2, rows)
+	rows[12][2] = "0,04" // C19: decimal comma
+	rows[5][1] = "1O2.5" // B12: letter O for zero
+	fillSheet(t, f, "XS-2", survey.SectionHeaderRow+1, rows)
 	if err := f.Save(); err != nil {
 		t.Fatal(err)
 	}
@@ -323,8 +369,8 @@ func TestWorkbookCellErrors(t *testing.T) {
 		t.Fatal("no error")
 	}
 	for _, want := range []string{
-		path + `['XS-2']!B7: elevation (m) "1O2.5": not a number`,
-		path + `['XS-2']!C14: n "0,04": decimal comma`,
+		path + `['XS-2']!B12: elevation (m) "1O2.5": not a number`,
+		path + `['XS-2']!C19: n "0,04": decimal comma`,
 	} {
 		if !strings.Contains(err.Error(), want) {
 			t.Errorf("error\n%s\nlacks\n%s", err, want)
@@ -397,7 +443,7 @@ func TestTemplatePrefilled(t *testing.T) {
 	odd.Section.Name = "bad/name"
 	path := writeTemplate(t, survey.TemplateOptions{Surveys: []survey.Survey{orig, odd, orig}, Sections: 4, Rows: 10})
 	f := openBook(t, path)
-	if got, want := f.GetSheetList(), []string{"tallow-xs1", "XS-1", "XS-2", "XS-3", "reach", "gaugings", "instructions"}; !slices.Equal(got, want) {
+	if got, want := f.GetSheetList(), []string{"tallow-xs1", "XS-1", "XS-2", "XS-3", "coordinates", "reach", "gaugings", "instructions"}; !slices.Equal(got, want) {
 		t.Fatalf("sheets %v, want %v", got, want)
 	}
 	for _, sheet := range []string{"tallow-xs1", "XS-1", "XS-2"} {
@@ -414,10 +460,258 @@ func TestTemplatePrefilled(t *testing.T) {
 	}
 	// Validation rules cover every prefilled row even when Rows is smaller.
 	dvs, err := f.GetDataValidations("tallow-xs1")
-	if err != nil || len(dvs) == 0 || dvs[0].Sqref != "A2:A"+strconv.Itoa(len(orig.Section.Points)+1) {
+	hr := survey.SectionHeaderRow
+	if err != nil || len(dvs) == 0 || dvs[0].Sqref != "A"+strconv.Itoa(hr+1)+":A"+strconv.Itoa(len(orig.Section.Points)+hr) {
 		t.Errorf("rules %v %v", dvs, err)
 	}
 	if _, err := survey.ReadSection(path, "XS-3", survey.SectionOptions{}); !errors.Is(err, subdivide.ErrTooFewPoints) {
 		t.Errorf("XS-3 should be blank: %v", err)
+	}
+}
+
+// The site block holds one key row per metadata key above the header, so
+// the header row follows it.
+func TestSectionHeaderRowFollowsSiteBlock(t *testing.T) {
+	if got, want := survey.SectionHeaderRow, len(survey.MetaKeys())+1; got != want {
+		t.Errorf("SectionHeaderRow %d, want %d (one row per metadata key, then the header)", got, want)
+	}
+}
+
+// TestTemplateSiteBlock writes a survey carrying a site into a template
+// and reads the sheet back: the same site and the same section, through
+// ReadSection and the sheet lister. Blank sheets have blank site blocks
+// whose value cells prompt for the value.
+func TestTemplateSiteBlock(t *testing.T) {
+	orig, err := survey.ReadSection("../testdata/tallow-xs1.csv", "", survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	orig.Site = rating.Site{Name: "Tallow Creek at Mill Lane (invented)", ID: "0412", Surveyed: "2026-05-14",
+		Datum: "local, BM-3 at 105.000", Crew: "AB, CD; level and staff"}
+	path := writeTemplate(t, survey.TemplateOptions{Surveys: []survey.Survey{orig}, Rows: 10})
+	got, err := survey.ReadSection(path, "tallow-xs1", survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Site != orig.Site {
+		t.Errorf("site %+v, want %+v", got.Site, orig.Site)
+	}
+	a, b := got.Section, orig.Section
+	if !slices.Equal(a.Points, b.Points) || !slices.Equal(a.N, b.N) || a.HasBanks != b.HasBanks ||
+		a.LeftBank != b.LeftBank || a.RightBank != b.RightBank || !slices.Equal(got.Labels, orig.Labels) || !slices.Equal(got.Notes, orig.Notes) {
+		t.Errorf("section read back %+v, want %+v", a, b)
+	}
+	if want := survey.SectionHeaderRow + 1; got.Rows[0] != want {
+		t.Errorf("first point in row %d, want %d", got.Rows[0], want)
+	}
+	tab, err := survey.ReadTable(path, "XS-1")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tab.Site() != (rating.Site{}) || len(tab.Meta) != len(survey.MetaKeys()) {
+		t.Errorf("blank sheet: site %+v, meta %q", tab.Site(), tab.Meta)
+	}
+	f := openBook(t, path)
+	for _, sheet := range []string{"tallow-xs1", "XS-1", "coordinates"} {
+		dvs, err := f.GetDataValidations(sheet)
+		if err != nil {
+			t.Fatal(err)
+		}
+		prompts := map[string]string{}
+		for _, dv := range dvs {
+			if dv.ShowInputMessage && dv.Prompt != nil && dv.PromptTitle != nil {
+				prompts[dv.Sqref] = *dv.PromptTitle
+			}
+		}
+		for i, k := range survey.MetaKeys() {
+			if cell := "B" + strconv.Itoa(i+1); prompts[cell] != k {
+				t.Errorf("%s!%s: prompt %q, want one for %q", sheet, cell, prompts[cell], k)
+			}
+		}
+		// A date typed as a value stays text: the value cells are text.
+		id, err := f.GetCellStyle(sheet, "B3")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if st, err := f.GetStyle(id); err != nil || st.CustomNumFmt == nil || *st.CustomNumFmt != "@" {
+			t.Errorf("%s!B3: style %+v %v, want text", sheet, st, err)
+		}
+	}
+}
+
+// A survey whose headers name feet is refused by an SI template: its
+// numbers would be labelled metres.
+func TestTemplateRefusesOtherUnits(t *testing.T) {
+	sv, err := survey.ParseSection(strings.NewReader("station (ft),elevation (ft)\n0,3\n10,0\n20,3\n"), "feet.csv", survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := survey.WriteTemplate(&bytes.Buffer{}, survey.TemplateOptions{Surveys: []survey.Survey{sv}}); !errors.Is(err, survey.ErrUnitsDisagree) {
+		t.Errorf("feet survey in an SI template: %v, want ErrUnitsDisagree", err)
+	}
+	if err := survey.WriteTemplate(&bytes.Buffer{}, survey.TemplateOptions{Surveys: []survey.Survey{sv}, Units: rating.US}); err != nil {
+		t.Errorf("feet survey in a US template: %v", err)
+	}
+}
+
+// templateStationTol bounds the difference between a projected station
+// and its closed-form value (m): the coordinates are exact to about 1e-10
+// at 4e6 m.
+const templateStationTol = 1e-6
+
+// TestTemplateCoordinateSheet fills the coordinate sheet the way a total
+// station's export is pasted in, with its site block, and reads it back
+// as a coordinate survey. The points lie on a line of direction (3/5, 4/5)
+// from the left pin, so station s and offset o give the closed form
+// (E, N) = (E0 + 0.6 s + 0.8 o, N0 + 0.8 s − 0.6 o).
+func TestTemplateCoordinateSheet(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Rows: 20})
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const e0, n0 = 512000.0, 4123000.0
+	st := []float64{0, 4, 9, 15, 21, 25}
+	off := []float64{0, 0.2, -0.1, 0, 0.3, 0}
+	z := []float64{104.1, 102.0, 100.4, 100.2, 102.2, 104.4}
+	marks := []any{"left pin", "bank", "", "thalweg", "bank", "Right Pin"}
+	rows := make([][]any, len(st))
+	for i := range st {
+		var n any
+		if i == 0 {
+			n = 0.05
+		} else if i == 1 {
+			n = "0.035" // typed as text
+		}
+		rows[i] = []any{e0 + 0.6*st[i] + 0.8*off[i], n0 + 0.8*st[i] - 0.6*off[i], z[i], n, marks[i], fmt.Sprintf("shot %d", i+1)}
+	}
+	fillSheet(t, f, survey.FieldSheetCoordinates, survey.SectionHeaderRow+1, rows)
+	for i, v := range []string{"Larch Brook at the ford (invented)", "LB-07"} {
+		if err := f.SetCellStr(survey.FieldSheetCoordinates, "B"+strconv.Itoa(i+1), v); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+
+	sv, err := survey.ReadSection(path, survey.FieldSheetCoordinates, survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if pr := sv.Projection; pr.Line != survey.LineFromPins || pr.Left != survey.LeftFromPins || pr.Reversed {
+		t.Errorf("projection %q, %q, reversed %v", pr.Line, pr.Left, pr.Reversed)
+	}
+	for i, p := range sv.Section.Points {
+		if math.Abs(p.Station-st[i]) > templateStationTol || p.Elevation != z[i] {
+			t.Errorf("point %d: station %.9g elevation %g, want %g and %g", i, p.Station, p.Elevation, st[i], z[i])
+		}
+		if math.Abs(sv.Projection.Offsets[i]-off[i]) > templateStationTol {
+			t.Errorf("point %d: offset %.9g, want %g", i, sv.Projection.Offsets[i], off[i])
+		}
+	}
+	if !sv.Section.HasBanks || math.Abs(sv.Section.LeftBank-4) > templateStationTol || math.Abs(sv.Section.RightBank-21) > templateStationTol {
+		t.Errorf("banks %v %g %g, want 4 and 21", sv.Section.HasBanks, sv.Section.LeftBank, sv.Section.RightBank)
+	}
+	if want := []float64{0.05, 0.035, 0.035, 0.035, 0.035}; !slices.Equal(sv.Section.N, want) {
+		t.Errorf("n %v, want %v", sv.Section.N, want)
+	}
+	if sv.Site.Name != "Larch Brook at the ford (invented)" || sv.Site.ID != "LB-07" || sv.Notes[3] != "shot 4" || sv.Labels[3] != "thalweg" {
+		t.Errorf("site %+v, notes %q, labels %q", sv.Site, sv.Notes, sv.Labels)
+	}
+	if sv.Section.Name != survey.FieldSheetCoordinates {
+		t.Errorf("section name %q", sv.Section.Name)
+	}
+}
+
+// TestTemplateGaugingColumns fills the gaugings sheet's optional columns:
+// the uncertainty overrides the grade's band, any exclude text is kept as
+// the reason; an uncertainty of 100 % is refused at its cell.
+func TestTemplateGaugingColumns(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Rows: 10})
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := time.Date(2026, 3, 14, 9, 30, 0, 0, time.UTC)
+	fillSheet(t, f, survey.FieldSheetGaugings, 2, [][]any{
+		{d, 1.25, 3.4, "good", 6.5, "", "wading"},
+		{d.Add(48 * time.Hour), 1.6, 7.9, "fair", nil, "weed on the control", ""},
+		{d.Add(96 * time.Hour), 1.1, 2.0, "poor", "12", "", ""},
+	})
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	gs, err := survey.ReadGaugings(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(gs.Gaugings) != 3 {
+		t.Fatalf("%d gaugings", len(gs.Gaugings))
+	}
+	for i, want := range []struct {
+		unc       float64
+		excl      string
+		note      string
+		discharge float64
+	}{{6.5, "", "wading", 3.4}, {0, "weed on the control", "", 7.9}, {12, "", "", 2.0}} {
+		g := gs.Gaugings[i]
+		if g.Uncertainty != want.unc || g.Exclude != want.excl || g.Note != want.note || g.Discharge != want.discharge {
+			t.Errorf("gauging %d: uncertainty %g exclude %q note %q discharge %g, want %+v", i, g.Uncertainty, g.Exclude, g.Note, g.Discharge, want)
+		}
+	}
+	if err := f.SetCellFloat(survey.FieldSheetGaugings, "E3", 100, -1, 64); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	_, err = survey.ReadGaugings(path, "")
+	if !errors.Is(err, survey.ErrUncertainty) || !strings.Contains(err.Error(), "['gaugings']!E3") {
+		t.Errorf("uncertainty 100: %v, want ErrUncertainty at E3", err)
+	}
+}
+
+// TestTemplateReachColumns fills the reach sheet's flow lengths and the
+// sections' surveys on sheets of the same workbook, and reads the reach
+// for step-backwater: the lengths read back; a structure is kept and
+// refused by OpenChannel at its cell.
+func TestTemplateReachColumns(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Sections: 2, Rows: 10})
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ground := [][]any{{0.0, 103.0, 0.05, ""}, {3.0, 102.1, nil, ""}, {6.0, 101.0, 0.035, "bank"}, {10.0, 100.0, nil, ""},
+		{14.0, 101.1, 0.05, "bank"}, {17.0, 102.0, nil, ""}, {20.0, 103.2, nil, ""}}
+	for _, sheet := range []string{"XS-1", "XS-2"} {
+		fillSheet(t, f, sheet, survey.SectionHeaderRow+1, ground)
+	}
+	fillSheet(t, f, survey.FieldSheetReach, 2, [][]any{
+		{"XS-1", "XS-1", 0.0, nil, nil, "", 180.0, 150.0, "", "", "upstream"},
+		{"XS-2", "XS-2", 150.0, nil, nil, "", nil, nil, nil, "bridge", ""},
+	})
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	r, err := survey.ReadReachWith(path, survey.FieldSheetReach, survey.ReachOptions{MarksOptional: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Rows) != 2 || len(r.Surveys) != 2 || len(r.Warnings) != 0 {
+		t.Fatalf("rows %+v, %d surveys, warnings %q", r.Rows, len(r.Surveys), r.Warnings)
+	}
+	up := r.Rows[0]
+	if up.LeftLength != 180 || up.ChannelLength != 150 || !math.IsNaN(up.RightLength) || up.Structure != "" || up.Note != "upstream" {
+		t.Errorf("upstream row %+v", up)
+	}
+	if r.Rows[1].Structure != "bridge" || len(r.Surveys[1].Section.Points) != len(ground) {
+		t.Errorf("downstream row %+v", r.Rows[1])
+	}
+	if err := r.OpenChannel(); !errors.Is(err, survey.ErrStructure) || !strings.Contains(err.Error(), "['reach']!J3") {
+		t.Errorf("structure: %v, want ErrStructure at J3", err)
 	}
 }

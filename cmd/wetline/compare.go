@@ -40,7 +40,7 @@ type compareFlags struct {
 func (f *compareFlags) register(fs *flagSet) {
 	fs.StringVar(&f.sheetA, "sheet-a", "", "workbook sheet of A (default: the first)")
 	fs.StringVar(&f.sheetB, "sheet-b", "", "workbook sheet of B (default: the first)")
-	fs.StringVar(&f.units, "units", "si", "unit system of both: si (m, m3/s) or us (ft, ft3/s); default: the units written in the surveys' headers, else si")
+	fs.StringVar(&f.units, "units", "si", "unit system of both: si (m, m3/s) or us (ft, ft3/s); default: the units written in the headers of A (or B), else si")
 	f.coords.register(fs, true)
 	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows)")
 	fs.Var(&f.datum, "datum", "ratings: subtract from the stages of both, or A,B: read tables of elevations at gauge heights")
@@ -81,8 +81,7 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 	if err := fs.positive("step"); err != nil {
 		return err
 	}
-	u, err := rating.ParseUnits(f.units)
-	if err != nil {
+	if _, err := rating.ParseUnits(f.units); err != nil {
 		return usageError{err: err}
 	}
 	a, b := fs.Arg(0), fs.Arg(1)
@@ -91,9 +90,9 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	if kind == survey.KindRating {
-		return f.ratings(e, fs, a, b, u, format)
+		return f.ratings(e, fs, a, b, format)
 	}
-	return f.sections(e, fs, a, b, u, format)
+	return f.sections(e, fs, a, b, format)
 }
 
 // kinds tells what A and B hold by their columns; they must be of one
@@ -142,12 +141,17 @@ func pair(fs *flagSet, name string, v numbers, i int) (float64, bool, error) {
 }
 
 // ratings compares two rating tables.
-func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, u rating.Units, format string) error {
+func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) error {
 	if err := refuse(fs, "ratings", sectionOnly[:]); err != nil {
 		return err
 	}
 	var tables [2]*gauged.TableRating
 	var warnings []string
+	// The headers of A, then of B, set the units unless --units does.
+	d, err := decideUnits(f.units, fs.Changed("units"))
+	if err != nil {
+		return err
+	}
 	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
 		opt := survey.RatingTableOptions{Sheet: in.sheet}
 		var err error
@@ -161,6 +165,9 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, u rating.Units,
 		if err != nil {
 			return err
 		}
+		if err := d.take(rt.Units, in.path); err != nil {
+			return err
+		}
 		if n := len(rt.Periods); n != 1 {
 			return fmt.Errorf("compare: %s holds %d rating periods (a %s column): compare takes one rating per file", in.path, n, survey.ColRatingValidFrom)
 		}
@@ -169,7 +176,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, u rating.Units,
 			return fmt.Errorf("%s: %w", in.path, err)
 		}
 	}
-	c, err := gauged.CompareRatings(tables[0], tables[1], gauged.CompareOptions{Step: f.step, Units: u})
+	c, err := gauged.CompareRatings(tables[0], tables[1], gauged.CompareOptions{Step: f.step, Units: d.Units})
 	if err != nil {
 		return fmt.Errorf("compare: %s and %s: %w", a, b, err)
 	}
@@ -207,7 +214,7 @@ func compareBase(a, b string) string {
 }
 
 // sections compares two surveys of one section.
-func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, u rating.Units, format string) error {
+func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string) error {
 	if err := refuse(fs, "surveys", ratingOnly[:]); err != nil {
 		return err
 	}
@@ -247,7 +254,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, u rating.Units
 	if err != nil {
 		return err
 	}
-	opt := rating.Options{Units: u, Geometry: subdivide.Options{AllPools: f.allPools}}
+	opt := rating.Options{Units: ps[0].Units, Geometry: subdivide.Options{AllPools: f.allPools}} // B was read in A's units
 	c, err := rating.CompareSections(ps[0].Geometry, ps[1].Geometry, stages, opt)
 	if err != nil {
 		return fmt.Errorf("compare: %w", err)

@@ -154,10 +154,23 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if err != nil {
 		return nil, err
 	}
-	units, err := gs.Units.Resolve(choice.Units, choice.Given)
-	if err != nil {
+	// The gaugings' headers set the units unless --units did; then the
+	// hydraulic rating table's, read before the sections for that.
+	d := unitsDecided{UnitChoice: choice}
+	if choice.Given {
+		d.by = "--units"
+	}
+	if err := d.take(gs.Units, path); err != nil {
 		return nil, err
 	}
+	var table *gauged.TableRating
+	var tableWarnings []string
+	if f.hydraulicTable != "" {
+		if table, tableWarnings, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, &d); err != nil {
+			return nil, err
+		}
+	}
+	units := d.Units
 	opt.Units = units
 	warnings := append([]string(nil), gs.Warnings...)
 	site := gs.Site
@@ -173,14 +186,10 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		opt.Site = p.Survey.Section.Name
 		site = site.Merge(p.Site)
 	}
-	if f.hydraulicTable != "" {
-		t, w, err := readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum)
-		if err != nil {
-			return nil, err
-		}
+	if table != nil {
 		inputs = append(inputs, f.hydraulicTable)
-		warnings = append(warnings, w...)
-		opt.HydraulicTable = t
+		warnings = append(warnings, tableWarnings...)
+		opt.HydraulicTable = table
 	}
 	if f.controlSection != "" {
 		p, err := survey.Prepare(survey.SectionRequest{Path: f.controlSection, Units: units, UnitsGiven: true})
@@ -205,10 +214,14 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 
 // readHydraulicTable reads a hydraulic rating table at gauge heights
 // (stage − datum): one rating, interpolated log-linearly in the stage
-// above its dry foot when it has one.
-func readHydraulicTable(path, sheet string, datum float64) (*gauged.TableRating, []string, error) {
+// above its dry foot when it has one. The units of its headers must be
+// those decided, or decide them (see unitsDecided.take).
+func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) (*gauged.TableRating, []string, error) {
 	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum})
 	if err != nil {
+		return nil, nil, err
+	}
+	if err := units.take(rt.Units, path); err != nil {
 		return nil, nil, err
 	}
 	if len(rt.Periods) != 1 || rt.Periods[0].Rating == nil {

@@ -39,7 +39,10 @@ type historyFlags struct {
 	shiftsSheet string
 	offset      utcOffset
 	units       string
-	unitSystem  rating.Units
+	// unitSystem is the unit system of the ratings and gaugings read,
+	// and decided what set it (see unitsDecided).
+	unitSystem rating.Units
+	decided    unitsDecided
 }
 
 func (hf *historyFlags) register(fs *flagSet) {
@@ -53,7 +56,8 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringVar(&hf.shifts, "shifts", "", "shift diagrams FILE (time, stage, shift columns; optional taper and abrupt)")
 	fs.StringVar(&hf.shiftsSheet, "shifts-sheet", "", "workbook sheet of the shift diagrams (default: the first)")
 	fs.Var(&hf.offset, "utc-offset", "offset ±HH:MM of times written without one, in every file read; days and times are reported in it (default UTC)")
-	fs.StringVar(&hf.units, "units", "si", "unit system that labels the values: si (m, m3/s) or us (ft, ft3/s); nothing is converted")
+	fs.StringVar(&hf.units, "units", "si", "unit system that labels the values: si (m, m3/s) or us (ft, ft3/s); nothing is converted "+
+		"(default: the units written in the rating tables' or the gaugings' headers, else si)")
 }
 
 // ratingSpec is one --rating: a file (or no rating) and when it comes into
@@ -114,11 +118,10 @@ type datedPeriod struct {
 // warnings.
 func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string, error) {
 	var h gauged.History
-	u, err := rating.ParseUnits(hf.units)
+	d, err := decideUnits(hf.units, fs.Changed("units"))
 	if err != nil {
-		return h, nil, nil, usageError{err: err}
+		return h, nil, nil, err
 	}
-	hf.unitSystem = u
 	if len(hf.ratings) == 0 {
 		return h, nil, nil, usagef("%s: give the rating with --rating FILE (and --rating FILE@TIME for each later rating period)", hf.cmd)
 	}
@@ -149,6 +152,9 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		if err != nil {
 			return h, nil, nil, err
 		}
+		if err := d.take(rt.Units, spec.path); err != nil {
+			return h, nil, nil, err
+		}
 		if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
 			return h, nil, nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
 				hf.cmd, s, spec.path, survey.ColRatingValidFrom)
@@ -159,6 +165,7 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 			periods = append(periods, datedPeriod{p, s})
 		}
 	}
+	hf.decided, hf.unitSystem = d, d.Units
 	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
 	for i, p := range periods {
 		if i > 0 && p.From.Equal(periods[i-1].From) {
@@ -182,6 +189,17 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		return h, nil, nil, err
 	}
 	return h, inputs, warnings, nil
+}
+
+// gaugingUnits resolves the units of the gaugings' headers against those
+// of the ratings (or --units); gaugings naming units set them when nothing
+// had.
+func (hf *historyFlags) gaugingUnits(gs survey.Gaugings, path string) error {
+	if err := hf.decided.take(gs.Units, path); err != nil {
+		return err
+	}
+	hf.unitSystem = hf.decided.Units
+	return nil
 }
 
 // compile checks a history and prepares it for lookups.
@@ -365,7 +383,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 			return nil, fmt.Errorf("record: %s: %w", path, err)
 		}
 	}
-	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset), UnitSystem: f.unitSystem}
+	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset)}
 	inputs = append([]string{path}, inputs...)
 	warnings = append(warnings, sr.Warnings...)
 	var site rating.Site
@@ -374,11 +392,15 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err != nil {
 			return nil, err
 		}
+		if err := f.gaugingUnits(gs, f.gaugings); err != nil {
+			return nil, err
+		}
 		site = gs.Site
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)
 		warnings = append(warnings, gs.Warnings...)
 	}
+	opt.UnitSystem = f.unitSystem
 	res, err := record.Compute(st, r, opt)
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)

@@ -119,6 +119,9 @@ func (f *shiftsFlags) check(fs *flagSet, path string) (*gauged.ShiftCheck, error
 	if err != nil {
 		return nil, err
 	}
+	if err := f.gaugingUnits(gs, path); err != nil {
+		return nil, err
+	}
 	c, err := r.CheckGaugings(gs.Gaugings, gauged.CheckOptions{VisitGap: f.visitGap, Units: f.unitSystem, UTCOffset: time.Duration(f.offset)})
 	if err != nil {
 		return nil, usageError{err: err}

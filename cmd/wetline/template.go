@@ -19,7 +19,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		fmt.Sprintf("number of cross-section sheets XS-1, XS-2, … (1 to %d)", survey.MaxTemplateSections))
 	rows := fs.Int("rows", survey.DefaultTemplateRows,
 		fmt.Sprintf("rows per sheet that carry validation rules (1 to %d)", survey.MaxTemplateRows))
-	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s)")
+	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s); default: the units in the first --survey headers that name any, else si")
 	surveys := fs.StringArray("survey", nil, "prefill a cross-section sheet from this survey (CSV, or a workbook's first sheet); repeatable")
 	if err := fs.parse(e, args); err != nil {
 		return err
@@ -41,11 +41,18 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		return usageError{err: err}
 	}
 	opt := survey.TemplateOptions{Sections: *sections, Rows: *rows, Units: u}
+	given := fs.Changed("units")
 	for _, path := range *surveys {
 		sv, err := survey.ReadSection(path, "", survey.SectionOptions{})
 		if err != nil {
 			return err
 		}
+		// The first survey whose headers name units decides them, unless --units does.
+		if u, err = sv.Units.Resolve(u, given); err != nil {
+			return err
+		}
+		given = given || sv.Units.Found
+		opt.Units = u
 		opt.Surveys = append(opt.Surveys, sv)
 	}
 	if len(opt.Surveys) > survey.MaxTemplateSections {
@@ -54,8 +61,8 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	return e.deliver(delivery{output: *out, inputs: *surveys,
 		write: func(w io.Writer) error { return survey.WriteTemplate(w, opt) },
 		summary: func(w io.Writer) error {
-			_, err := fmt.Fprintf(w, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s and %s; units %s, %s\n",
-				*out, max(*sections, len(opt.Surveys)), len(opt.Surveys),
+			_, err := fmt.Fprintf(w, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s, %s and %s; units %s, %s\n",
+				*out, max(*sections, len(opt.Surveys)), len(opt.Surveys), survey.FieldSheetCoordinates,
 				survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions, u.Length(), u.Discharge())
 			return err
 		}})

@@ -43,7 +43,7 @@ func TestTemplateCommand(t *testing.T) {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	if got, want := f.GetSheetList(), []string{"XS-1", "XS-2", "reach", "gaugings", "instructions"}; !slices.Equal(got, want) {
+	if got, want := f.GetSheetList(), []string{"XS-1", "XS-2", "coordinates", "reach", "gaugings", "instructions"}; !slices.Equal(got, want) {
 		t.Errorf("sheets %v, want %v", got, want)
 	}
 	for _, args := range [][]string{
@@ -76,10 +76,10 @@ func fillFromCSV(t *testing.T, path, sheet, csvPath string) {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	if err := f.SetCellStr(sheet, "F1", "surveyor"); err != nil {
+	if err := f.SetCellStr(sheet, "F"+strconv.Itoa(survey.SectionHeaderRow), "surveyor"); err != nil {
 		t.Fatal(err)
 	}
-	row := 2
+	row := survey.SectionHeaderRow + 1
 	for i, rec := range tab.Records {
 		if i == 7 {
 			row++ // leave a blank row
@@ -202,7 +202,7 @@ func TestRateWorkbookErrors(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := f.SetCellStr("XS-2", "C14", "0.O35"); err != nil {
+	if err := f.SetCellStr("XS-2", "C19", "0.O35"); err != nil { // the 12th point, below a blank row
 		t.Fatal(err)
 	}
 	if err := f.Save(); err != nil {
@@ -211,8 +211,8 @@ func TestRateWorkbookErrors(t *testing.T) {
 	f.Close()
 	out := filepath.Join(dir, "r.xlsx")
 	_, _, err = runWB(t, "rate", field, "--sheet", "XS-2", "--slope", "0.001", "-o", out)
-	if err == nil || !strings.Contains(err.Error(), field+`['XS-2']!C14: n "0.O35": not a number`) {
-		t.Errorf("error %v, want one naming 'XS-2'!C14", err)
+	if err == nil || !strings.Contains(err.Error(), field+`['XS-2']!C19: n "0.O35": not a number`) {
+		t.Errorf("error %v, want one naming 'XS-2'!C19", err)
 	}
 	if _, serr := os.Stat(out); serr == nil {
 		t.Errorf("partial output %s left behind", out)
