@@ -69,3 +69,22 @@ func multiple(k float64, step float64) float64 {
 	}
 	return k * step
 }
+
+// DecimalDifference returns a − b, as the float64 nearest the exact
+// difference of their shortest decimal forms when both have at most nine
+// decimals (an elevation less a gauge datum: 100.7915 − 100 is 0.7915, not
+// 0.7914999999999992); otherwise the float64 difference.
+func DecimalDifference(a, b float64) float64 {
+	na, pa, okA := decimalOf(a)
+	nb, pb, okB := decimalOf(b)
+	if !okA || !okB {
+		return a - b
+	}
+	p := max(pa, pb)
+	na *= pow10(p - pa)
+	nb *= pow10(p - pb)
+	if d := na - nb; math.Abs(float64(na)) <= maxExactInteger && math.Abs(float64(nb)) <= maxExactInteger && math.Abs(float64(d)) <= maxExactInteger {
+		return float64(d) / float64(pow10(p))
+	}
+	return a - b
+}

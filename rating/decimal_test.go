@@ -34,3 +34,19 @@ func TestSteppedStagesAreDecimals(t *testing.T) {
 		t.Errorf("1036 × 0.1 = %.17g, want 103.6", h)
 	}
 }
+
+// An elevation less a datum is the decimal difference, as typed (the
+// float64 difference of 100.7915 and 100 is 0.7914999999999992, IEEE 754).
+func TestDecimalDifference(t *testing.T) {
+	for _, c := range []struct{ a, b, want float64 }{
+		{100.7915, 100, 0.7915},
+		{102.3, 100.1, 2.2},
+		{5, 7.25, -2.25},
+		{1.0 / 3, 0, 1.0 / 3}, // not a short decimal: the float64 difference
+		{1e17, 1, 1e17 - 1},
+	} {
+		if got := DecimalDifference(c.a, c.b); got != c.want {
+			t.Errorf("DecimalDifference(%v, %v) = %v, want %v", c.a, c.b, got, c.want)
+		}
+	}
+}

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"time"
 
+	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
@@ -138,7 +139,7 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		h, okh := ratingNumber(t, rec, cs, &errs)
 		q, okq := ratingNumber(t, rec, cq, &errs)
 		if okh && okq {
-			g.points = append(g.points, gauged.RatingPoint{Stage: h - opt.Datum, Discharge: q})
+			g.points = append(g.points, gauged.RatingPoint{Stage: rating.DecimalDifference(h, opt.Datum), Discharge: q})
 			g.recs = append(g.recs, rec)
 			g.extrapolated = append(g.extrapolated, cx >= 0 && yesWord(t.Cell(rec, cx)))
 		}
