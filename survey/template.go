@@ -31,6 +31,10 @@ type TemplateOptions struct {
 	// be Units. A sheet is named after its section when that is a usable
 	// sheet name, else XS-i. There are max(Sections, len(Surveys)) sheets.
 	Surveys []Survey
+	// Site fills the site blocks: every field it gives (a name, a date)
+	// is written on every sheet with a site block, over what a prefilled
+	// survey says of it; its blank fields leave the survey's.
+	Site rating.Site
 }
 
 // Template defaults and bounds.
@@ -119,10 +123,10 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	var blocks []siteBlock
 	for i, name := range names {
 		var data [][]any
-		blk := siteBlock{sheet: name, columns: len(sectionColumns(opt.Units))}
+		blk := siteBlock{sheet: name, columns: len(sectionColumns(opt.Units)), site: opt.Site}
 		if i < len(opt.Surveys) {
 			data = surveyRows(opt.Surveys[i])
-			blk.site = opt.Surveys[i].Site
+			blk.site = opt.Site.Merge(opt.Surveys[i].Site)
 		}
 		if err := b.InputSheet(name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
 			return err
@@ -132,7 +136,7 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if err := b.InputSheet(FieldSheetCoordinates, coordinateSheetColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	blocks = append(blocks, siteBlock{sheet: FieldSheetCoordinates, columns: len(coordinateSheetColumns(opt.Units))})
+	blocks = append(blocks, siteBlock{sheet: FieldSheetCoordinates, columns: len(coordinateSheetColumns(opt.Units)), site: opt.Site})
 	if err := b.InputSheet(FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}

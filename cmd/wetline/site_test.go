@@ -1,8 +1,10 @@
 package main
 
 import (
+	"path/filepath"
 	"strings"
 	"testing"
+	"wetline/survey"
 )
 
 // Every command that writes a report takes --site and names the site in
@@ -42,5 +44,24 @@ func TestSiteEverywhere(t *testing.T) {
 	out, errs, code := runCLI(t, "rate", larchCoords, "--slope", "0.003", "--stages", "94", "--format", "text")
 	if code != 0 || !strings.Contains(out, "Site: Larch Brook at the footbridge (invented) (id LB-02), surveyed 2026-10-03") {
 		t.Errorf("site key of the survey not reported: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// template --site writes the site's name into the site block of every
+// cross-section sheet, where the readers find it.
+func TestTemplateSite(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(t.TempDir(), "field.xlsx")
+	if _, errs, code := runCLI(t, "template", "-o", path, "--sections", "2", "--site", "Heron Weir gauge"); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, sheet := range []string{"XS-1", "XS-2", survey.FieldSheetCoordinates} {
+		tab, err := survey.ReadTable(path, sheet)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := tab.Site().Name; got != "Heron Weir gauge" {
+			t.Errorf("%s: site %q", sheet, got)
+		}
 	}
 }

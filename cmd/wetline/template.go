@@ -4,12 +4,13 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"strings"
 
 	"wetline/rating"
 	"wetline/survey"
 )
 
-const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us] [--survey SURVEY ...]"
+const templateUsage = "template -o FILE.xlsx [--sections N] [--rows N] [--units si|us] [--site NAME] [--survey SURVEY ...]"
 
 // runTemplate writes a blank field workbook for a survey crew.
 func runTemplate(ctx context.Context, e *env, args []string) error {
@@ -21,6 +22,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		fmt.Sprintf("rows per sheet that carry validation rules (1 to %d)", survey.MaxTemplateRows))
 	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s); default: the units in the first --survey headers that name any, else si")
 	surveys := fs.StringArray("survey", nil, "prefill a cross-section sheet from this survey (CSV, or a workbook's first sheet); repeatable")
+	site := fs.String("site", "", "the site's name, written in the site block of every cross-section sheet")
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
@@ -40,7 +42,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return usageError{err: err}
 	}
-	opt := survey.TemplateOptions{Sections: *sections, Rows: *rows, Units: u}
+	opt := survey.TemplateOptions{Sections: *sections, Rows: *rows, Units: u, Site: rating.Site{Name: strings.Join(strings.Fields(*site), " ")}}
 	given := fs.Changed("units")
 	for _, path := range *surveys {
 		sv, err := survey.ReadSection(path, "", survey.SectionOptions{})
