@@ -59,6 +59,9 @@ func (fs *flagSet) help(w io.Writer) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Usage: wetline %s\n\n", fs.usage)
 	fs.VisitAll(func(f *pflag.Flag) {
+		if f.Hidden {
+			return // kept for old scripts, not offered
+		}
 		name := "--" + f.Name
 		if f.Shorthand != "" {
 			name = "-" + f.Shorthand + ", " + name
@@ -67,8 +70,9 @@ func (fs *flagSet) help(w io.Writer) error {
 			name += " " + argName(typ)
 		}
 		def := ""
-		switch f.DefValue {
-		case "", "false", "0", "[]", "NaN":
+		switch {
+		case f.DefValue == "" || f.DefValue == "false" || f.DefValue == "0" || f.DefValue == "[]" || f.DefValue == "NaN":
+		case strings.Contains(f.Usage, "default:"): // the usage says the default in words
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}

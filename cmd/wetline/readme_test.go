@@ -5,13 +5,23 @@ import (
 	"image/png"
 	"os"
 	"path/filepath"
+	"regexp"
+	"slices"
+	"sort"
+	"strings"
 	"testing"
 )
 
 // readmeFigures are the demo's figures the README shows, copied from a
 // demo run into testdata/readme with -update, so the README never shows a
 // figure the program no longer draws.
-var readmeFigures = [...]string{"tallow-fit.png", "tallow-xs1-section.png", "tallow-backwater-rating.png", "tallow-stage-2025-hydrograph.png"}
+var readmeFigures = [...]string{
+	"tallow-xs1-section.png", "tallow-xs1-rating.png", "larch-xs-plan.png", "tallow-fit.png",
+	"reach-brindle-profile.png", "tallow-backwater-rating.png", "tallow-stage-2025-hydrograph.png",
+}
+
+// readmePath is the README at the top of the module.
+const readmePath = moduleRoot + "/README.md"
 
 // TestReadmeFigures keeps the README's figures those of the demo: with
 // -update it copies them from a demo run; without, it checks each is a
@@ -48,6 +58,300 @@ func TestReadmeFigures(t *testing.T) {
 		}
 		if a.Width != b.Width || a.Height != b.Height {
 			t.Errorf("%s is %d×%d, the demo draws %d×%d: run with -update", path, b.Width, b.Height, a.Width, a.Height)
+		}
+	}
+}
+
+// readme returns the README's text.
+func readme(t *testing.T) string {
+	t.Helper()
+	b, err := os.ReadFile(readmePath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
+
+// readmeImage matches an image of the README: its path.
+var readmeImage = regexp.MustCompile(`!\[[^\]]*\]\(([^)]+)\)`)
+
+// TestReadmeShowsOnlyDemoFigures checks every image of the README is one
+// of readmeFigures, and every one of them is shown.
+func TestReadmeShowsOnlyDemoFigures(t *testing.T) {
+	t.Parallel()
+	shown := map[string]bool{}
+	for _, m := range readmeImage.FindAllStringSubmatch(readme(t), -1) {
+		name, ok := strings.CutPrefix(m[1], "cmd/wetline/testdata/readme/")
+		if !ok || !slices.Contains(readmeFigures[:], name) {
+			t.Errorf("README shows %s, which is not a demo figure of readmeFigures", m[1])
+		}
+		shown[name] = true
+	}
+	for _, name := range readmeFigures {
+		if !shown[name] {
+			t.Errorf("readmeFigures holds %s, which the README does not show", name)
+		}
+	}
+}
+
+// builtinCommands are the commands run handles itself, outside the table.
+var builtinCommands = [...]string{"help", "version", "completion"}
+
+// TestManualsListEveryCommand checks the README has a section for every
+// command and the go doc manual (doc.go) lists every command.
+func TestManualsListEveryCommand(t *testing.T) {
+	t.Parallel()
+	text := readme(t)
+	doc, err := os.ReadFile("doc.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	names := slices.Collect(func(yield func(string) bool) {
+		for n := range commandTable() {
+			if !yield(n) {
+				return
+			}
+		}
+	})
+	names = append(names, builtinCommands[:]...)
+	for _, n := range names {
+		if !regexp.MustCompile(`(?m)^### .*\bwetline ` + n + `\b`).MatchString(text) {
+			t.Errorf("README has no section ### wetline %s", n)
+		}
+		if !regexp.MustCompile(`(?m)^//\t` + n + ` `).Match(doc) {
+			t.Errorf("doc.go does not list the command %s", n)
+		}
+	}
+}
+
+// helpFlagLine matches a flag line of a command's help: shorthand, name and
+// argument.
+var helpFlagLine = regexp.MustCompile(`(?m)^  (?:-(\w), )?--([a-z0-9-]+)(?: (NUM|LIST|TEXT))?(?:\s|$)`)
+
+// cliFlags are a command's flags as its help lists them: each long name
+// (and "-x" shorthand, mapped to its long name) and whether it takes a
+// value.
+type cliFlags struct {
+	long  map[string]bool   // name → takes a value
+	short map[string]string // shorthand → name
+}
+
+// readmeCommandFlags reads the flags of every command from its help.
+func readmeCommandFlags(t *testing.T) map[string]cliFlags {
+	t.Helper()
+	all := map[string]cliFlags{}
+	for name := range commandTable() {
+		out, errs, code := runCLI(t, name, "--help")
+		if code != 0 {
+			t.Fatalf("%s --help: exit %d: %s", name, code, errs)
+		}
+		f := cliFlags{long: map[string]bool{}, short: map[string]string{}}
+		for _, m := range helpFlagLine.FindAllStringSubmatch(out, -1) {
+			f.long[m[2]] = m[3] != ""
+			if m[1] != "" {
+				f.short[m[1]] = m[2]
+			}
+		}
+		all[name] = f
+	}
+	return all
+}
+
+// readmeFlag matches a long flag written in the README.
+var readmeFlag = regexp.MustCompile("(?:^|[\\s`(\\[|])--([a-z][a-z0-9-]*)")
+
+// TestReadmeFlagsExist checks every flag the README names exists: the
+// flags of a usage block (a code block line starting "wetline COMMAND")
+// on that command, every other on some command.
+func TestReadmeFlagsExist(t *testing.T) {
+	t.Parallel()
+	flags := readmeCommandFlags(t)
+	text := readme(t)
+	for _, u := range readmeCodeLines(text, false) {
+		words := strings.Fields(u)
+		f, ok := flags[words[1]]
+		if !ok {
+			continue // help, version, completion
+		}
+		for _, m := range readmeFlag.FindAllStringSubmatch(u, -1) {
+			if _, ok := f.long[m[1]]; !ok && m[1] != "help" {
+				t.Errorf("README: wetline %s has no flag --%s (in %q)", words[1], m[1], u)
+			}
+		}
+	}
+	for _, m := range readmeFlag.FindAllStringSubmatch(text, -1) {
+		found := m[1] == "help" || m[1] == "version"
+		for _, f := range flags {
+			_, ok := f.long[m[1]]
+			found = found || ok
+		}
+		if !found {
+			t.Errorf("README names --%s, which no command has", m[1])
+		}
+	}
+}
+
+// readmeCodeLines returns the commands of the README's code blocks: lines
+// starting "wetline " (a "$ " prompt dropped, continuation lines joined:
+// after a backslash, or indented under a usage line), from the runnable sh
+// blocks only when runnable, else from every block.
+func readmeCodeLines(text string, runnable bool) []string {
+	var out []string
+	in, sh, usage := false, false, false
+	var cont string
+	for _, line := range strings.Split(text, "\n") {
+		if strings.HasPrefix(line, "```") {
+			in, sh, usage = !in, strings.TrimPrefix(line, "```") == "sh", false
+			continue
+		}
+		if !in || (runnable && !sh) {
+			continue
+		}
+		if usage && !sh && strings.HasPrefix(line, " ") {
+			out[len(out)-1] += " " + strings.TrimSpace(line)
+			continue
+		}
+		usage = false
+		line = strings.TrimSpace(line)
+		if cont != "" {
+			line, cont = cont+" "+line, ""
+		}
+		if strings.HasSuffix(line, `\`) {
+			cont = strings.TrimSuffix(line, `\`)
+			continue
+		}
+		line = strings.TrimPrefix(line, "$ ")
+		if strings.HasPrefix(line, "wetline ") {
+			out = append(out, line)
+			usage = true
+		}
+	}
+	return out
+}
+
+// shellWords splits a README command into words: spaces separate them,
+// double quotes group them, and " # " starts a comment.
+func shellWords(line string) []string {
+	var words []string
+	var w strings.Builder
+	quoted, started := false, false
+	for i := 0; i < len(line); i++ {
+		c := line[i]
+		switch {
+		case c == '"':
+			quoted, started = !quoted, true
+		case c == ' ' && !quoted:
+			if started {
+				words = append(words, w.String())
+				w.Reset()
+				started = false
+			}
+		case c == '#' && !quoted && !started:
+			return words
+		default:
+			w.WriteByte(c)
+			started = true
+		}
+	}
+	if started {
+		words = append(words, w.String())
+	}
+	return words
+}
+
+// readmePathFlags are the flags whose value is a file or folder.
+var readmePathFlags = map[string]bool{
+	"output": true, "plots": true, "section": true, "calibrate": true, "hydraulic-rating": true,
+	"control-section": true, "shifts": true, "gaugings": true, "proposed": true, "rating": true, "survey": true,
+}
+
+// inDir rewrites a README command's paths into dir, where the README's
+// examples run: positional arguments (with globs expanded there; shape's
+// is a spec) and the values of the path flags.
+func inDir(t *testing.T, dir string, f cliFlags, words []string) []string {
+	t.Helper()
+	out := []string{words[0]}
+	path := func(p string) string {
+		if p == "-" || strings.HasPrefix(p, "none@") {
+			return p
+		}
+		return filepath.Join(dir, p)
+	}
+	for i := 1; i < len(words); i++ {
+		w := words[i]
+		name, value, inline := "", "", false
+		switch {
+		case strings.HasPrefix(w, "--"):
+			name, value, inline = strings.Cut(w[2:], "=")
+		case strings.HasPrefix(w, "-") && len(w) == 2:
+			name = f.short[w[1:]]
+		case words[0] == "shape":
+			out = append(out, w) // a spec, not a path
+			continue
+		default:
+			if strings.ContainsAny(w, "*?[") {
+				m, err := filepath.Glob(filepath.Join(dir, w))
+				if err != nil || len(m) == 0 {
+					t.Fatalf("%q matches nothing in the demo folder", w)
+				}
+				sort.Strings(m)
+				out = append(out, m...)
+				continue
+			}
+			out = append(out, path(w))
+			continue
+		}
+		takes, known := f.long[name]
+		if !known || !takes || inline {
+			if inline && readmePathFlags[name] {
+				w = "--" + name + "=" + path(value)
+			}
+			out = append(out, w)
+			continue
+		}
+		if i+1 >= len(words) {
+			t.Fatalf("%s: flag %s has no value", strings.Join(words, " "), w)
+		}
+		i++
+		v := words[i]
+		if readmePathFlags[name] {
+			v = path(v)
+		}
+		out = append(out, w, v)
+	}
+	return out
+}
+
+// TestReadmeExamples runs every command of the README's sh blocks where
+// the README says they run, inside a copy of the demo folder, and checks
+// each succeeds. The demo itself is run by demoOutput.
+func TestReadmeExamples(t *testing.T) {
+	t.Parallel()
+	src, _ := demoOutput(t)
+	dir := t.TempDir()
+	if err := os.CopyFS(dir, os.DirFS(src)); err != nil {
+		t.Fatal(err)
+	}
+	flags := readmeCommandFlags(t)
+	lines := readmeCodeLines(readme(t), true)
+	if len(lines) < 20 {
+		t.Fatalf("found %d example commands in the README: the sh blocks are not being read", len(lines))
+	}
+	for _, line := range lines {
+		words := shellWords(strings.TrimPrefix(line, "wetline "))
+		if slices.Contains(words, ">") || slices.Contains(words, "|") {
+			t.Errorf("README example %q: write outputs with -o, not through the shell", line)
+			continue
+		}
+		if words[0] == "demo" {
+			continue
+		}
+		args := words
+		if f, ok := flags[words[0]]; ok {
+			args = inDir(t, dir, f, words)
+		}
+		if _, errs, code := runCLI(t, args...); code != 0 {
+			t.Errorf("README example %q: exit %d:\n%s", line, code, errs)
 		}
 	}
 }

@@ -59,9 +59,12 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
-	if r.Comparison != nil {
+	switch {
+	case r.Hydraulic != nil:
 		fmt.Fprintf(bw, "; gauge datum: elevation = gauge height + %s %s", FormatFloat(r.Datum), r.Units.Length())
-	} else {
+	case r.HydraulicTable != nil:
+		fmt.Fprintf(bw, "; stages are gauge heights, hydraulic rating from the %s", r.HydraulicSource)
+	default:
 		fmt.Fprint(bw, "; stages are gauge heights as read (no section)")
 	}
 	fmt.Fprintln(bw)
