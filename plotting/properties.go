@@ -59,79 +59,27 @@ func PropertiesFromTable(t rating.Table) []PropertyRow {
 }
 
 // Properties draws area, top width, hydraulic radius, conveyance, α and
-// mean velocity against stage, one panel each, as a PNG into w. A panel
-// whose values are all undefined is left out with a warning.
+// mean velocity against stage, one panel each, as a PNG into w, in the
+// units of pp.Units (stage in the length unit). Rows without a finite
+// stage are left out; a NaN value breaks its panel's line, and a panel
+// whose values are all undefined is left out with a warning. With a
+// finite bankfull stage, the overbank zone above it is shaded and
+// bankfull marked on every panel. The error wraps ErrNoData when no row
+// has a stage or no property a defined value, and ErrSize or ErrDraw when
+// the figure cannot be drawn.
 func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 	var res Result
 	un := names(pp.Units)
-	quantities := []struct {
-		title, unit string
-		fromZero    bool
-		get         func(PropertyRow) float64
-	}{
-		{"Flow area A", un.area, true, func(r PropertyRow) float64 { return r.Area }},
-		{"Top width T", un.length, true, func(r PropertyRow) float64 { return r.TopWidth }},
-		{"Hydraulic radius R", un.length, true, func(r PropertyRow) float64 { return r.HydraulicRadius }},
-		{"Conveyance K", un.discharge, true, func(r PropertyRow) float64 { return r.Conveyance }},
-		{"Energy coefficient α", "dimensionless", false, func(r PropertyRow) float64 { return r.Alpha }},
-		{"Mean velocity V", un.velocity, true, func(r PropertyRow) float64 { return r.MeanVelocity }},
-	}
-	bankfull := pp.HasBankfull && finite(pp.Bankfull)
-	rows := make([]PropertyRow, 0, len(pp.Rows))
-	for _, r := range pp.Rows {
-		if finite(r.Stage) {
-			rows = append(rows, r)
-		}
-	}
-	sortRows(rows)
+	rows := stagedRows(pp.Rows)
 	if len(rows) == 0 {
 		return res, fmt.Errorf("%w: the properties figure needs rows with a stage", ErrNoData)
 	}
 	var panels []*plot.Plot
-	for _, q := range quantities {
-		p := newPanel(q.title, q.unit, "")
-		p.Title.TextStyle.Font = sansBold(sizeLabel)
-		if bankfull {
-			p.Add(zoneAbove{y: pp.Bankfull, color: colOverbank})
-		}
-		addGrid(p)
-		p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{n: 4}, linearTicks{}
-		n := 0
-		var runXY plotter.XYs
-		flush := func() {
-			if len(runXY) == 0 {
-				return
-			}
-			l, s, err := plotter.NewLinePoints(runXY)
-			if err == nil {
-				l.LineStyle = lineStyle(colHydraulic, 1.8)
-				s.GlyphStyle = draw.GlyphStyle{Color: colHydraulic, Radius: vg.Points(1.8), Shape: draw.CircleGlyph{}}
-				p.Add(l, s)
-			}
-			runXY = nil
-		}
-		for _, r := range rows {
-			v := q.get(r)
-			if !finite(v) {
-				flush()
-				continue
-			}
-			runXY = append(runXY, plotter.XY{X: v, Y: r.Stage})
-			n++
-		}
-		flush()
-		if n == 0 {
+	for _, q := range propertyQuantities(un) {
+		p, ok := pp.panel(q, rows)
+		if !ok {
 			res.Warnings = append(res.Warnings, q.title+": no defined values; panel left out")
 			continue
-		}
-		if bankfull {
-			p.Add(hline{y: pp.Bankfull, style: lineStyle(colBank, 1.4, vg.Points(7), vg.Points(3)),
-				label: "bankfull " + fmtStage(pp.Bankfull)})
-		}
-		p.Y.Min = rows[0].Stage
-		p.Y.Max = rows[len(rows)-1].Stage
-		if q.fromZero && p.X.Min > 0 {
-			p.X.Min = 0
 		}
 		panels = append(panels, p)
 	}
@@ -148,14 +96,7 @@ func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 			p.Y.Label.Text = "Stage, " + un.length
 		}
 	}
-	sub := pp.Subtitle
-	if sub == "" {
-		sub = "One panel per property, stage on the vertical axis"
-		if bankfull {
-			sub = fmt.Sprintf("Shaded above bankfull, %s %s (the lower bank top), where the overbanks flow", fmtStage(pp.Bankfull), un.length)
-		}
-	}
-	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: sub}
+	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: pp.subtitle(un)}
 	err := render(w, pp.Size, fig, func(c draw.Canvas) error {
 		tiles := draw.Tiles{Rows: nrows, Cols: cols, PadX: vg.Points(16), PadY: vg.Points(14)}
 		for i, p := range panels {
@@ -164,6 +105,111 @@ func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// propertyQuantity is one panel of the properties figure.
+type propertyQuantity struct {
+	title, unit string
+	// fromZero starts the value axis at zero when all values are positive.
+	fromZero bool
+	get      func(PropertyRow) float64
+}
+
+// propertyQuantities returns the panels of the properties figure in
+// their order.
+func propertyQuantities(un unitNames) []propertyQuantity {
+	return []propertyQuantity{
+		{"Flow area A", un.area, true, func(r PropertyRow) float64 { return r.Area }},
+		{"Top width T", un.length, true, func(r PropertyRow) float64 { return r.TopWidth }},
+		{"Hydraulic radius R", un.length, true, func(r PropertyRow) float64 { return r.HydraulicRadius }},
+		{"Conveyance K", un.discharge, true, func(r PropertyRow) float64 { return r.Conveyance }},
+		{"Energy coefficient α", "dimensionless", false, func(r PropertyRow) float64 { return r.Alpha }},
+		{"Mean velocity V", un.velocity, true, func(r PropertyRow) float64 { return r.MeanVelocity }},
+	}
+}
+
+// stagedRows returns the rows with a finite stage, sorted by stage.
+func stagedRows(in []PropertyRow) []PropertyRow {
+	rows := make([]PropertyRow, 0, len(in))
+	for _, r := range in {
+		if finite(r.Stage) {
+			rows = append(rows, r)
+		}
+	}
+	sortRows(rows)
+	return rows
+}
+
+// marksBankfull reports a bankfull stage to mark.
+func (pp PropertiesPlot) marksBankfull() bool { return pp.HasBankfull && finite(pp.Bankfull) }
+
+// panel draws quantity q against stage over the rows (sorted by stage),
+// with the overbank zone and bankfull when known; false when no row has
+// a defined value.
+func (pp PropertiesPlot) panel(q propertyQuantity, rows []PropertyRow) (*plot.Plot, bool) {
+	p := newPanel(q.title, q.unit, "")
+	p.Title.TextStyle.Font = sansBold(sizeLabel)
+	if pp.marksBankfull() {
+		p.Add(zoneAbove{y: pp.Bankfull, color: colOverbank})
+	}
+	addGrid(p)
+	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{n: 4}, linearTicks{}
+	if addPropertyRuns(p, rows, q.get) == 0 {
+		return nil, false
+	}
+	if pp.marksBankfull() {
+		p.Add(hline{y: pp.Bankfull, style: lineStyle(colBank, 1.4, vg.Points(7), vg.Points(3)),
+			label: "bankfull " + fmtStage(pp.Bankfull)})
+	}
+	p.Y.Min = rows[0].Stage
+	p.Y.Max = rows[len(rows)-1].Stage
+	if q.fromZero && p.X.Min > 0 {
+		p.X.Min = 0
+	}
+	return p, true
+}
+
+// addPropertyRuns draws the values get takes from the rows against stage
+// as lines with points, broken where a value is undefined; it returns
+// the number of points drawn.
+func addPropertyRuns(p *plot.Plot, rows []PropertyRow, get func(PropertyRow) float64) int {
+	n := 0
+	var runXY plotter.XYs
+	flush := func() {
+		if len(runXY) == 0 {
+			return
+		}
+		l, s, err := plotter.NewLinePoints(runXY)
+		if err == nil {
+			l.LineStyle = lineStyle(colHydraulic, 1.8)
+			s.GlyphStyle = draw.GlyphStyle{Color: colHydraulic, Radius: vg.Points(1.8), Shape: draw.CircleGlyph{}}
+			p.Add(l, s)
+		}
+		runXY = nil
+	}
+	for _, r := range rows {
+		v := get(r)
+		if !finite(v) {
+			flush()
+			continue
+		}
+		runXY = append(runXY, plotter.XY{X: v, Y: r.Stage})
+		n++
+	}
+	flush()
+	return n
+}
+
+// subtitle is pp.Subtitle, or else what the figure shows and where the
+// overbanks flow.
+func (pp PropertiesPlot) subtitle(un unitNames) string {
+	switch {
+	case pp.Subtitle != "":
+		return pp.Subtitle
+	case pp.marksBankfull():
+		return fmt.Sprintf("Shaded above bankfull, %s %s (the lower bank top), where the overbanks flow", fmtStage(pp.Bankfull), un.length)
+	}
+	return "One panel per property, stage on the vertical axis"
 }
 
 func sortRows(rows []PropertyRow) {

@@ -139,133 +139,42 @@ type RatingPlot struct {
 	Size Size
 }
 
-// Rating draws a rating figure as a PNG into w.
+// Rating draws a rating figure as a PNG into w: stage against discharge
+// on linear axes (the hydraulic and fitted curves, the prior, the
+// hydraulic extension, the bands and the gaugings with their error bars,
+// the gauge height of zero flow and bankfull marked) and, when a gauge
+// height of zero flow e is known, a log–log panel of discharge against
+// h − e. Stages are in the length unit and discharges in the discharge
+// unit of r.Units.
 //
-// The log–log panel leaves out every point at or below the gauge height
-// of zero flow or without positive discharge (a log axis cannot show
-// them); Result.Omitted counts them, and Result.Warnings reports them,
-// except curve points without flow at or below e, which every hydraulic
-// rating has (the dry channel).
+// Points with a NaN or infinite value are left out (a gauging so left
+// out is warned of). The log–log panel leaves out every point at or
+// below e or without positive discharge (a log axis cannot show them);
+// Result.Omitted counts them, and Result.Warnings reports them, except
+// curve points without flow at or below e, which every hydraulic rating
+// has (the dry channel). The error wraps ErrNoData when there is no curve
+// and no gauging to draw, ErrSize for a size out of range, or ErrDraw
+// when drawing fails.
 func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	var res Result
-	hyd, fit := cleanCurve(r.Hydraulic), cleanCurve(r.Fitted)
-	ext, pri := cleanCurve(r.Extension), cleanCurve(r.Prior)
-	band, total := cleanBand(r.Band), cleanBand(r.TotalBand)
-	var gaugings []Gauging
-	for _, g := range r.Gaugings {
-		if finite(g.Stage, g.Discharge) {
-			gaugings = append(gaugings, g)
-		}
+	d, dropped := cleanRatingLines(r)
+	if dropped > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gauging(s) with a missing stage or discharge left out", dropped))
 	}
-	if n := len(r.Gaugings) - len(gaugings); n > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gauging(s) with a missing stage or discharge left out", n))
-	}
-	if len(hyd)+len(fit)+len(ext)+len(gaugings) == 0 {
+	if len(d.hyd)+len(d.fit)+len(d.ext)+len(d.gaugings) == 0 {
 		return res, fmt.Errorf("%w: the rating figure needs a curve or gaugings", ErrNoData)
 	}
 	un := names(r.Units)
 	e, haveE := r.ZeroFlow, r.HasZeroFlow && finite(r.ZeroFlow)
 	if !haveE {
-		e, haveE = zeroFlowOf(hyd)
+		e, haveE = zeroFlowOf(d.hyd)
 	}
 	if !haveE {
 		res.Warnings = append(res.Warnings, "no gauge height of zero flow known: the log–log panel is left out")
 	}
-	hydLabel := orDefault(r.Hydraulic.Label, "hydraulic rating (Manning)")
-	fitLabel := orDefault(r.Fitted.Label, "fitted rating")
-	bandLabel := orDefault(r.BandLabel, "95 % confidence band")
-	totalLabel := orDefault(r.TotalBandLabel, "95 % total band")
-	extLabel := orDefault(r.Extension.Label, "hydraulic extension")
-	priorLabel := orDefault(r.Prior.Label, "prior")
-
-	lin := newPanel("Stage–discharge", "Discharge, "+un.discharge, "Stage, "+un.length)
-	addGrid(lin)
-	addBands(lin, total, band, totalLabel, bandLabel, 0, false)
-	addCurve(lin, hyd, hydLabel, colHydraulic, 2.2, 0, false)
-	addStyledCurve(lin, pri, priorLabel, lineStyle(colPrior, 1.4, vg.Points(1.5), vg.Points(3)), 0, false)
-	addCurve(lin, fit, fitLabel, colFitted, 1.8, 0, false)
-	addStyledCurve(lin, ext, extLabel, lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)), 0, false)
-	addGaugings(lin, gaugings, 0, false)
-	// A rating rises to the right: the upper left stays empty, unless a
-	// fit reaches far above its gaugings with its bands; then the lower
-	// right, below the curve bending over at high flows, is emptier (the
-	// legend is lifted clear of the zero-flow line's label).
-	lin.Legend.Top = true
-	lin.Legend.Left = true
-	lin.Legend.XOffs = vg.Points(8)
-	lin.Legend.YOffs = -vg.Points(6)
-	if len(band)+len(total)+len(ext) > 0 {
-		lin.Legend.Top, lin.Legend.Left = false, false
-		lin.Legend.XOffs, lin.Legend.YOffs = -vg.Points(8), vg.Points(20)
-	}
-	if lin.X.Min > 0 {
-		lin.X.Min = 0 // discharge from zero, unless data lie below it
-	}
-	lin.Y.Tick.Marker = linearTicks{}
-	lin.X.Tick.Marker = linearTicks{}
+	panels := []*plot.Plot{linearRatingPanel(r, d, un, e, haveE)}
 	if haveE {
-		addZeroFlowLine(lin, e)
-	}
-	if r.HasBankfull && finite(r.Bankfull) {
-		lin.Add(hline{y: r.Bankfull, style: lineStyle(colBank, 1.2, vg.Points(7), vg.Points(3)),
-			label: "bankfull " + fmtStage(r.Bankfull)})
-	}
-
-	panels := []*plot.Plot{lin}
-	if haveE {
-		// A short axis label: gonum places a log axis label's box by the
-		// arithmetic mid-range, so a long one pads the panel needlessly.
-		lg := newPanel(fmt.Sprintf("Log–log: stage above zero flow, e = %s %s", fmtStage(e), un.length),
-			"Discharge, "+un.discharge, "h − e, "+un.length)
-		omitted, warned := 0, 0
-		for i, c := range [][]RatingPoint{hyd, fit, ext} {
-			for _, p := range c {
-				if p.Stage-e > 0 && p.Discharge > 0 {
-					continue
-				}
-				omitted++
-				// A dry point at or below e is what a rating should
-				// have, and so is the dry foot of a hydraulic rating
-				// whatever e a fit puts beside it; flow at or below e,
-				// or negative flow, is not.
-				dry := p.Discharge == 0 && (p.Stage <= e || i == 0)
-				if !dry {
-					warned++
-				}
-			}
-		}
-		gOut := 0
-		for _, g := range gaugings {
-			if !(g.Stage-e > 0 && g.Discharge > 0) {
-				gOut++
-			}
-		}
-		res.Omitted = omitted + gOut
-		if gOut > 0 {
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"log–log panel: %d gauging(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
-				gOut, fmtStage(e), un.length))
-		}
-		if warned > 0 {
-			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"log–log panel: %d rating point(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
-				warned, fmtStage(e), un.length))
-		}
-		addGrid(lg)
-		addBands(lg, total, band, "", "", e, true)
-		n := addCurve(lg, hyd, "", colHydraulic, 2.2, e, true)
-		addStyledCurve(lg, pri, "", lineStyle(colPrior, 1.4, vg.Points(1.5), vg.Points(3)), e, true)
-		n += addCurve(lg, fit, "", colFitted, 1.8, e, true)
-		n += addStyledCurve(lg, ext, "", lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3)), e, true)
-		n += addGaugings(lg, gaugings, e, true)
-		if n == 0 {
-			res.Warnings = append(res.Warnings, "log–log panel: no point lies above the gauge height of zero flow; panel left out")
-		} else {
-			lg.X.Scale, lg.Y.Scale = plot.LogScale{}, plot.LogScale{}
-			lg.X.Tick.Marker, lg.Y.Tick.Marker = LogTicks125{}, LogTicks125{}
-			xlo, xhi, ylo, yhi := logExtent(append(hyd, ext...), fit, append(band, total...), gaugings, e)
-			lg.X.Min, lg.X.Max = logRange(xlo, xhi)
-			lg.Y.Min, lg.Y.Max = logRange(ylo, yhi)
+		if lg := logRatingPanel(d, un, e, &res); lg != nil {
 			panels = append(panels, lg)
 		}
 	}
@@ -281,6 +190,146 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// ratingLines are the drawable parts of a rating figure: its curves
+// sorted by stage, its bands and its gaugings, all finite.
+type ratingLines struct {
+	hyd, fit, ext, pri []RatingPoint
+	band, total        []BandPoint
+	gaugings           []Gauging
+}
+
+// cleanRatingLines keeps the finite points of every curve, band and
+// gauging of r; it returns them with the number of gaugings left out.
+func cleanRatingLines(r RatingPlot) (ratingLines, int) {
+	d := ratingLines{
+		hyd: cleanCurve(r.Hydraulic), fit: cleanCurve(r.Fitted),
+		ext: cleanCurve(r.Extension), pri: cleanCurve(r.Prior),
+		band: cleanBand(r.Band), total: cleanBand(r.TotalBand),
+	}
+	for _, g := range r.Gaugings {
+		if finite(g.Stage, g.Discharge) {
+			d.gaugings = append(d.gaugings, g)
+		}
+	}
+	return d, len(r.Gaugings) - len(d.gaugings)
+}
+
+// priorStyle is the line of the prior rating: thin olive dots.
+func priorStyle() draw.LineStyle { return lineStyle(colPrior, 1.4, vg.Points(1.5), vg.Points(3)) }
+
+// extensionStyle is the line of the hydraulic extension: dark copper,
+// dash-dot.
+func extensionStyle() draw.LineStyle {
+	return lineStyle(colExtension, 1.8, vg.Points(8), vg.Points(3), vg.Points(2), vg.Points(3))
+}
+
+// linearRatingPanel draws the stage–discharge panel on linear axes, with
+// the legend, the line of zero flow at e (when haveE) and bankfull.
+func linearRatingPanel(r RatingPlot, d ratingLines, un unitNames, e float64, haveE bool) *plot.Plot {
+	lin := newPanel("Stage–discharge", "Discharge, "+un.discharge, "Stage, "+un.length)
+	addGrid(lin)
+	addBands(lin, d.total, d.band, orDefault(r.TotalBandLabel, "95 % total band"), orDefault(r.BandLabel, "95 % confidence band"), 0, false)
+	addCurve(lin, d.hyd, orDefault(r.Hydraulic.Label, "hydraulic rating (Manning)"), colHydraulic, 2.2, 0, false)
+	addStyledCurve(lin, d.pri, orDefault(r.Prior.Label, "prior"), priorStyle(), 0, false)
+	addCurve(lin, d.fit, orDefault(r.Fitted.Label, "fitted rating"), colFitted, 1.8, 0, false)
+	addStyledCurve(lin, d.ext, orDefault(r.Extension.Label, "hydraulic extension"), extensionStyle(), 0, false)
+	addGaugings(lin, d.gaugings, 0, false)
+	// A rating rises to the right: the upper left stays empty, unless a
+	// fit reaches far above its gaugings with its bands; then the lower
+	// right, below the curve bending over at high flows, is emptier (the
+	// legend is lifted clear of the zero-flow line's label).
+	lin.Legend.Top = true
+	lin.Legend.Left = true
+	lin.Legend.XOffs = vg.Points(8)
+	lin.Legend.YOffs = -vg.Points(6)
+	if len(d.band)+len(d.total)+len(d.ext) > 0 {
+		lin.Legend.Top, lin.Legend.Left = false, false
+		lin.Legend.XOffs, lin.Legend.YOffs = -vg.Points(8), vg.Points(20)
+	}
+	if lin.X.Min > 0 {
+		lin.X.Min = 0 // discharge from zero, unless data lie below it
+	}
+	lin.Y.Tick.Marker = linearTicks{}
+	lin.X.Tick.Marker = linearTicks{}
+	if haveE {
+		addZeroFlowLine(lin, e)
+	}
+	if r.HasBankfull && finite(r.Bankfull) {
+		lin.Add(hline{y: r.Bankfull, style: lineStyle(colBank, 1.2, vg.Points(7), vg.Points(3)),
+			label: "bankfull " + fmtStage(r.Bankfull)})
+	}
+	return lin
+}
+
+// logRatingPanel draws the log–log panel of discharge against h − e,
+// adding to res the count of points it cannot show and the warnings
+// about them. It returns nil, with a warning, when no point lies above e.
+func logRatingPanel(d ratingLines, un unitNames, e float64, res *Result) *plot.Plot {
+	// A short axis label: gonum places a log axis label's box by the
+	// arithmetic mid-range, so a long one pads the panel needlessly.
+	lg := newPanel(fmt.Sprintf("Log–log: stage above zero flow, e = %s %s", fmtStage(e), un.length),
+		"Discharge, "+un.discharge, "h − e, "+un.length)
+	logOmissions(d, un, e, res)
+	addGrid(lg)
+	addBands(lg, d.total, d.band, "", "", e, true)
+	n := addCurve(lg, d.hyd, "", colHydraulic, 2.2, e, true)
+	addStyledCurve(lg, d.pri, "", priorStyle(), e, true)
+	n += addCurve(lg, d.fit, "", colFitted, 1.8, e, true)
+	n += addStyledCurve(lg, d.ext, "", extensionStyle(), e, true)
+	n += addGaugings(lg, d.gaugings, e, true)
+	if n == 0 {
+		res.Warnings = append(res.Warnings, "log–log panel: no point lies above the gauge height of zero flow; panel left out")
+		return nil
+	}
+	lg.X.Scale, lg.Y.Scale = plot.LogScale{}, plot.LogScale{}
+	lg.X.Tick.Marker, lg.Y.Tick.Marker = LogTicks125{}, LogTicks125{}
+	xlo, xhi, ylo, yhi := logExtent(append(d.hyd, d.ext...), d.fit, append(d.band, d.total...), d.gaugings, e)
+	lg.X.Min, lg.X.Max = logRange(xlo, xhi)
+	lg.Y.Min, lg.Y.Max = logRange(ylo, yhi)
+	return lg
+}
+
+// logOmissions counts in res.Omitted the points of the curves and the
+// gaugings that the log–log panel cannot show (at or below e, or without
+// positive discharge) and warns of the gaugings and of the curve points
+// with flow among them.
+func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
+	omitted, warned := 0, 0
+	for i, c := range [][]RatingPoint{d.hyd, d.fit, d.ext} {
+		for _, p := range c {
+			if p.Stage-e > 0 && p.Discharge > 0 {
+				continue
+			}
+			omitted++
+			// A dry point at or below e is what a rating should
+			// have, and so is the dry foot of a hydraulic rating
+			// whatever e a fit puts beside it; flow at or below e,
+			// or negative flow, is not.
+			dry := p.Discharge == 0 && (p.Stage <= e || i == 0)
+			if !dry {
+				warned++
+			}
+		}
+	}
+	gOut := 0
+	for _, g := range d.gaugings {
+		if !(g.Stage-e > 0 && g.Discharge > 0) {
+			gOut++
+		}
+	}
+	res.Omitted = omitted + gOut
+	if gOut > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"log–log panel: %d gauging(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+			gOut, fmtStage(e), un.length))
+	}
+	if warned > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"log–log panel: %d rating point(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+			warned, fmtStage(e), un.length))
+	}
 }
 
 func orDefault(s, def string) string {

@@ -110,7 +110,13 @@ func (x ReachSection) thalweg() subdivide.Point {
 
 // ReachProfile draws the longitudinal profile of a slope-area reach as a
 // PNG into w: thalweg, water surface, high-water marks on each bank and
-// the energy grade line against distance downstream.
+// the energy grade line (water surface plus velocity head, drawn when any
+// section has a positive velocity head) against distance downstream,
+// every elevation and distance in the length unit of r.Units. Sections
+// are drawn by distance; a mark without a finite elevation is left out
+// with a warning. The error wraps ErrNoData without sections, is a
+// plain error for a section without a finite distance or water surface,
+// and wraps ErrSize or ErrDraw when the figure cannot be drawn.
 func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 	var res Result
 	secs, err := r.sorted()
@@ -118,26 +124,54 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 		return res, err
 	}
 	un := names(r.Units)
+	lines := profileLinesOf(secs, &res)
 	p := newPanel("", "Distance downstream, "+un.length, "Elevation, "+un.length)
 	addGrid(p)
 	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
-	var bed, ws, egl plotter.XYs
-	marks := map[string]plotter.XYs{}
-	anyHead := false
+	p.Add(sectionTicks{secs: secs})
+	lines.draw(p)
+	lines.setRanges(p, secs)
+	p.Legend.Top, p.Legend.Left = true, false
+	p.Legend.XOffs = -vg.Points(36)
+	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area reach profile"), subtitle: r.profileSubtitle(secs, un), foot: r.foot()}
+	err = render(w, r.Size, fig, func(c draw.Canvas) error {
+		// Between the water surface near the top and the bed below.
+		p.Legend.YOffs = -0.3 * (c.Max.Y - c.Min.Y)
+		p.Draw(c)
+		return nil
+	})
+	return res, err
+}
+
+// profileLines are the lines of a reach profile, in distance order.
+type profileLines struct {
+	// bed is the thalweg, ws the water surface and egl the energy grade
+	// line of every section.
+	bed, ws, egl plotter.XYs
+	// marks are the high-water marks by side: Left, Right or "unknown side".
+	marks map[string]plotter.XYs
+	// anyHead reports a positive velocity head at some section.
+	anyHead bool
+}
+
+// profileLinesOf gathers the profile's lines from sections sorted by
+// distance, warning in res of each mark without elevation.
+func profileLinesOf(secs []ReachSection, res *Result) profileLines {
+	l := profileLines{marks: map[string]plotter.XYs{}}
 	for _, s := range secs {
 		t := s.thalweg()
 		if finite(t.Elevation) {
-			bed = append(bed, plotter.XY{X: s.Distance, Y: t.Elevation})
+			l.bed = append(l.bed, plotter.XY{X: s.Distance, Y: t.Elevation})
 		}
-		ws = append(ws, plotter.XY{X: s.Distance, Y: s.WaterSurface})
+		l.ws = append(l.ws, plotter.XY{X: s.Distance, Y: s.WaterSurface})
 		if finite(s.VelocityHead) && s.VelocityHead > 0 {
-			anyHead = true
+			l.anyHead = true
 		}
 		h := s.VelocityHead
 		if !finite(h) || h < 0 {
 			h = 0
 		}
-		egl = append(egl, plotter.XY{X: s.Distance, Y: s.WaterSurface + h})
+		l.egl = append(l.egl, plotter.XY{X: s.Distance, Y: s.WaterSurface + h})
 		for _, m := range s.Marks {
 			if !finite(m.Elevation) {
 				res.Warnings = append(res.Warnings, fmt.Sprintf("section %s: a high-water mark without elevation left out", s.ID))
@@ -147,32 +181,37 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 			if side != Left && side != Right {
 				side = "unknown side"
 			}
-			marks[side] = append(marks[side], plotter.XY{X: s.Distance, Y: m.Elevation})
+			l.marks[side] = append(l.marks[side], plotter.XY{X: s.Distance, Y: m.Elevation})
 		}
 	}
-	p.Add(sectionTicks{secs: secs})
-	if len(bed) > 0 {
-		l, sc, err := plotter.NewLinePoints(bed)
+	return l
+}
+
+// draw adds the thalweg, the energy grade line, the water surface and
+// the marks of each side to p, each with its legend entry.
+func (l profileLines) draw(p *plot.Plot) {
+	if len(l.bed) > 0 {
+		ln, sc, err := plotter.NewLinePoints(l.bed)
 		if err == nil {
-			l.LineStyle = lineStyle(colGround, 2.2)
+			ln.LineStyle = lineStyle(colGround, 2.2)
 			sc.GlyphStyle = draw.GlyphStyle{Color: colGround, Radius: vg.Points(3.2), Shape: draw.BoxGlyph{}}
-			p.Add(l, sc)
-			p.Legend.Add("thalweg (lowest ground)", l, sc)
+			p.Add(ln, sc)
+			p.Legend.Add("thalweg (lowest ground)", ln, sc)
 		}
 	}
-	if anyHead {
-		l, err := plotter.NewLine(egl)
+	if l.anyHead {
+		ln, err := plotter.NewLine(l.egl)
 		if err == nil {
-			l.LineStyle = lineStyle(colEnergy, 1.8, vg.Points(8), vg.Points(4))
-			p.Add(l)
-			p.Legend.Add("energy grade line (water surface + velocity head)", l)
+			ln.LineStyle = lineStyle(colEnergy, 1.8, vg.Points(8), vg.Points(4))
+			p.Add(ln)
+			p.Legend.Add("energy grade line (water surface + velocity head)", ln)
 		}
 	}
-	if l, sc, err := plotter.NewLinePoints(ws); err == nil {
-		l.LineStyle = lineStyle(colWater, 2)
+	if ln, sc, err := plotter.NewLinePoints(l.ws); err == nil {
+		ln.LineStyle = lineStyle(colWater, 2)
 		sc.GlyphStyle = draw.GlyphStyle{Color: colWater, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}
-		p.Add(l, sc)
-		p.Legend.Add("water surface used", l, sc)
+		p.Add(ln, sc)
+		p.Legend.Add("water surface used", ln, sc)
 	}
 	markStyles := []struct {
 		side  string
@@ -184,7 +223,7 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 		{"unknown side", "high-water mark, side not given", draw.GlyphStyle{Color: colMuted, Radius: vg.Points(4), Shape: draw.RingGlyph{}}},
 	}
 	for _, ms := range markStyles {
-		if xy := marks[ms.side]; len(xy) > 0 {
+		if xy := l.marks[ms.side]; len(xy) > 0 {
 			sc, err := plotter.NewScatter(xy)
 			if err != nil {
 				continue
@@ -194,14 +233,19 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 			p.Legend.Add(ms.label, sc)
 		}
 	}
-	// Room for the section labels above and the legend.
+}
+
+// setRanges sets the axes to every line and mark, with room above for
+// the section labels and the legend, and a margin at both ends of the
+// reach.
+func (l profileLines) setRanges(p *plot.Plot, secs []ReachSection) {
 	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, set := range []plotter.XYs{bed, ws, egl} {
+	for _, set := range []plotter.XYs{l.bed, l.ws, l.egl} {
 		for _, q := range set {
 			lo, hi = math.Min(lo, q.Y), math.Max(hi, q.Y)
 		}
 	}
-	for _, set := range marks {
+	for _, set := range l.marks {
 		for _, q := range set {
 			lo, hi = math.Min(lo, q.Y), math.Max(hi, q.Y)
 		}
@@ -216,26 +260,21 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 		xspan = 1
 	}
 	p.X.Min, p.X.Max = secs[0].Distance-0.04*xspan, secs[len(secs)-1].Distance+0.04*xspan
-	p.Legend.Top, p.Legend.Left = true, false
-	p.Legend.XOffs = -vg.Points(36)
+}
 
-	sub := r.Subtitle
-	if sub == "" {
-		first, last := secs[0], secs[len(secs)-1]
-		sub = fmt.Sprintf("%d sections over %s %s; water-surface fall %s %s", len(secs),
-			fmtNum(last.Distance-first.Distance), un.length, fmtNum(first.WaterSurface-last.WaterSurface), un.length)
-		if d := last.Distance - first.Distance; d > 0 {
-			sub += fmt.Sprintf(" (slope %.3g)", (first.WaterSurface-last.WaterSurface)/d)
-		}
+// profileSubtitle is r.Subtitle, or else the number of sections, the
+// reach length and the water-surface fall and slope.
+func (r ReachPlot) profileSubtitle(secs []ReachSection, un unitNames) string {
+	if r.Subtitle != "" {
+		return r.Subtitle
 	}
-	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area reach profile"), subtitle: sub, foot: r.foot()}
-	err = render(w, r.Size, fig, func(c draw.Canvas) error {
-		// Between the water surface near the top and the bed below.
-		p.Legend.YOffs = -0.3 * (c.Max.Y - c.Min.Y)
-		p.Draw(c)
-		return nil
-	})
-	return res, err
+	first, last := secs[0], secs[len(secs)-1]
+	sub := fmt.Sprintf("%d sections over %s %s; water-surface fall %s %s", len(secs),
+		fmtNum(last.Distance-first.Distance), un.length, fmtNum(first.WaterSurface-last.WaterSurface), un.length)
+	if d := last.Distance - first.Distance; d > 0 {
+		sub += fmt.Sprintf(" (slope %.3g)", (first.WaterSurface-last.WaterSurface)/d)
+	}
+	return sub
 }
 
 // sectionTicks draws a thin vertical line at each section with its id.

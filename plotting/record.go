@@ -334,74 +334,18 @@ func DrawRecord(res *record.Result, site, base string, size Size) ([]rating.Figu
 	return set.figs, set.warnings, nil
 }
 
-// hydrograph draws the record's hydrograph figure.
+// hydrograph draws the record's hydrograph figure: the discharge panel
+// over the gauge-height panel, on one time axis spanning the record.
 func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result, error) {
 	var out Result
 	un := names(res.UnitSystem)
-	z := res.Zone
 	q := recordRuns(res, func(u record.UnitValue) float64 { return u.Discharge })
 	if len(q) == 0 {
 		return out, fmt.Errorf("%w: no reading of the record has a discharge", ErrNoData)
 	}
-	top := newPanel("Discharge", "", "Discharge, "+un.discharge)
-	addGrid(top)
-	addRuns(top, q, "unit values", lineStyle(colHydraulic, 1.0))
-	var daily plotter.XYs
-	dailyRuns := [][]plotter.XY{}
-	for _, d := range res.Daily {
-		if !finite(d.Mean) {
-			if len(daily) > 0 {
-				dailyRuns = append(dailyRuns, daily)
-			}
-			daily = nil
-			continue
-		}
-		t := float64(d.Date.Unix())
-		daily = append(daily, plotter.XY{X: t, Y: d.Mean}, plotter.XY{X: t + 86400, Y: d.Mean})
-	}
-	if len(daily) > 0 {
-		dailyRuns = append(dailyRuns, daily)
-	}
-	for i, r := range dailyRuns {
-		runs := []recordRun{recordRun(r)}
-		label := ""
-		if i == 0 {
-			label = "daily mean"
-		}
-		addRuns(top, runs, label, lineStyle(colFitted, 1.6))
-	}
 	froms, pnames := periodsOf(res)
-	periodLines(top, froms, pnames, z, true)
-	if c := res.Gaugings; c != nil {
-		var pts []gaugingPoint
-		var outside plotter.XYs
-		for _, g := range c.Gaugings {
-			pts = append(pts, gaugingPoint{float64(g.Time.Unix()), g.Discharge, g.Quality})
-			if g.OutsideShifted && finite(g.Discharge) {
-				outside = append(outside, plotter.XY{X: float64(g.Time.Unix()), Y: g.Discharge})
-			}
-		}
-		addGaugingPoints(top, pts, true)
-		ringPoints(top, outside, "outside its band from the record")
-	}
-	top.Y.Min = math.Min(top.Y.Min, 0)
-	top.Legend.Top = true
-	top.Legend.XOffs = -vg.Points(6)
-	top.Y.Tick.Marker = linearTicks{}
-	top.X.Tick.Marker = timeTicks{z}
-
-	bottom := newPanel("Gauge height", "Time ("+zoneName(z)+")", "Gauge height, "+un.length)
-	addGrid(bottom)
-	addRuns(bottom, recordRuns(res, func(u record.UnitValue) float64 { return u.Stage }), "gauge height read", lineStyle(colInk, 1.0))
-	if len(res.Shifts) > 0 {
-		addRuns(bottom, recordRuns(res, func(u record.UnitValue) float64 { return u.Effective }), "effective gauge height (shift applied)",
-			lineStyle(colWater, 1.0, vg.Points(4), vg.Points(2)))
-	}
-	periodLines(bottom, froms, pnames, z, false)
-	bottom.Legend.Top = true
-	bottom.Legend.XOffs = -vg.Points(6)
-	bottom.Y.Tick.Marker = linearTicks{n: 4}
-	bottom.X.Tick.Marker = timeTicks{z}
+	top := dischargePanel(res, q, froms, pnames, un)
+	bottom := gaugeHeightPanel(res, froms, pnames, un)
 	lo, hi := float64(res.Units[0].Time), float64(res.Units[len(res.Units)-1].Time)
 	for _, p := range []*plot.Plot{top, bottom} {
 		p.X.Min, p.X.Max = lo, hi
@@ -421,6 +365,85 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 		return nil
 	})
 	return out, err
+}
+
+// dischargePanel draws the unit discharges q, the daily means, the start
+// of every rating period after the first (froms, named by pnames) and the
+// gaugings, ringed where they lie outside their band from the record.
+func dischargePanel(res *record.Result, q []recordRun, froms []time.Time, pnames []string, un unitNames) *plot.Plot {
+	z := res.Zone
+	top := newPanel("Discharge", "", "Discharge, "+un.discharge)
+	addGrid(top)
+	addRuns(top, q, "unit values", lineStyle(colHydraulic, 1.0))
+	for i, r := range dailyMeanRuns(res.Daily) {
+		runs := []recordRun{recordRun(r)}
+		label := ""
+		if i == 0 {
+			label = "daily mean"
+		}
+		addRuns(top, runs, label, lineStyle(colFitted, 1.6))
+	}
+	periodLines(top, froms, pnames, z, true)
+	if c := res.Gaugings; c != nil {
+		var pts []gaugingPoint
+		var outside plotter.XYs
+		for _, g := range c.Gaugings {
+			pts = append(pts, gaugingPoint{float64(g.Time.Unix()), g.Discharge, g.Quality})
+			if g.OutsideShifted && finite(g.Discharge) {
+				outside = append(outside, plotter.XY{X: float64(g.Time.Unix()), Y: g.Discharge})
+			}
+		}
+		addGaugingPoints(top, pts, true)
+		ringPoints(top, outside, "outside its band from the record")
+	}
+	top.Y.Min = math.Min(top.Y.Min, 0)
+	top.Legend.Top = true
+	top.Legend.XOffs = -vg.Points(6)
+	top.Y.Tick.Marker = linearTicks{}
+	top.X.Tick.Marker = timeTicks{z}
+	return top
+}
+
+// dailyMeanRuns lays the daily means out as steps, each day's mean held
+// from its start to the next day's, broken at days without a mean.
+func dailyMeanRuns(days []record.DailyValue) [][]plotter.XY {
+	var daily plotter.XYs
+	runs := [][]plotter.XY{}
+	for _, d := range days {
+		if !finite(d.Mean) {
+			if len(daily) > 0 {
+				runs = append(runs, daily)
+			}
+			daily = nil
+			continue
+		}
+		t := float64(d.Date.Unix())
+		daily = append(daily, plotter.XY{X: t, Y: d.Mean}, plotter.XY{X: t + 86400, Y: d.Mean})
+	}
+	if len(daily) > 0 {
+		runs = append(runs, daily)
+	}
+	return runs
+}
+
+// gaugeHeightPanel draws the gauge heights read, the effective gauge
+// heights when a shift is applied, and the start of every rating period
+// after the first.
+func gaugeHeightPanel(res *record.Result, froms []time.Time, pnames []string, un unitNames) *plot.Plot {
+	z := res.Zone
+	bottom := newPanel("Gauge height", "Time ("+zoneName(z)+")", "Gauge height, "+un.length)
+	addGrid(bottom)
+	addRuns(bottom, recordRuns(res, func(u record.UnitValue) float64 { return u.Stage }), "gauge height read", lineStyle(colInk, 1.0))
+	if len(res.Shifts) > 0 {
+		addRuns(bottom, recordRuns(res, func(u record.UnitValue) float64 { return u.Effective }), "effective gauge height (shift applied)",
+			lineStyle(colWater, 1.0, vg.Points(4), vg.Points(2)))
+	}
+	periodLines(bottom, froms, pnames, z, false)
+	bottom.Legend.Top = true
+	bottom.Legend.XOffs = -vg.Points(6)
+	bottom.Y.Tick.Marker = linearTicks{n: 4}
+	bottom.X.Tick.Marker = timeTicks{z}
+	return bottom
 }
 
 // periodsOf returns the beginning and the rating name of each of the

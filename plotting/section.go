@@ -53,9 +53,17 @@ type SectionPlot struct {
 // exaggeration is one of these times a power of ten.
 var exaggerationSteps = []float64{1, 1.5, 2, 2.5, 3, 4, 5, 6, 8}
 
-// CrossSection draws a cross-section figure as a PNG into w. The
-// elevation axis is widened so that the vertical exaggeration is a round
-// number, stated under the station axis.
+// CrossSection draws a cross-section figure as a PNG into w: the ground
+// line with its points, the subsection dividers labelled with their n,
+// the bank stations, the thalweg and the water surfaces, the wetted area
+// of each surface with Shade filled and its area, top width and wetted
+// perimeter stated at the foot. Stations and elevations are in the length
+// unit of s.Units. The elevation axis is widened so that the vertical
+// exaggeration is a round number, stated under the station axis. A water
+// surface without a finite stage or at or below the lowest ground is left
+// out with a warning. The error names the section when it does not
+// compile (subdivide.Compile), and wraps ErrSize or ErrDraw when the
+// figure cannot be drawn.
 func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 	var res Result
 	prof, err := subdivide.Compile(s.Section)
@@ -64,14 +72,49 @@ func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 	}
 	un := names(s.Units)
 	pts := s.Section.Points
-	subs := prof.Subsections()
-	xlo, xhi := pts[0].Station, pts[len(pts)-1].Station
 	zlo, zhi := math.Inf(1), math.Inf(-1)
 	for _, p := range pts {
 		zlo, zhi = math.Min(zlo, p.Elevation), math.Max(zhi, p.Elevation)
 	}
-	var water []WaterSurface
-	for _, ws := range s.Water {
+	water := drawableWater(s.Water, zlo, un, &res)
+	for _, ws := range water {
+		zhi = math.Max(zhi, ws.Stage)
+	}
+
+	p := newPanel("", "Station from the left end, looking downstream, "+un.length, "Elevation, "+un.length)
+	addGrid(p)
+	p.Add(groundFill{pts: pts})
+	foot := addWaterSurfaces(p, prof, s, water, un, &res)
+	if err := addGroundLine(p, pts); err != nil {
+		return res, fmt.Errorf("plotting: section %q: %w", s.Section.Name, err)
+	}
+	subs, low := prof.Subsections(), thalwegIndex(pts)
+	p.Add(sectionDecor{subs: subs, pts: pts, sec: s.Section, thalweg: pts[low], marks: s.Marks, unit: un.length})
+
+	// Ranges: all of the ground and water, with headroom for the n labels.
+	span := zhi - zlo
+	if span <= 0 {
+		span = 1
+	}
+	p.X.Min, p.X.Max = pts[0].Station, pts[len(pts)-1].Station
+	p.Y.Min, p.Y.Max = zlo-0.08*span, zhi+0.22*span
+	p.X.Padding, p.Y.Padding = 0, 0
+	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
+
+	fig := figure{title: titleOf(s.Site, s.Section.Name, "cross-section"), subtitle: s.subtitle(len(subs), low, un), foot: foot}
+	err = render(w, s.Size, fig, func(c draw.Canvas) error {
+		setExaggeration(p, c)
+		p.Draw(c)
+		return nil
+	})
+	return res, err
+}
+
+// drawableWater returns the water surfaces with a finite stage above the
+// lowest ground zlo, warning in res of each one left out.
+func drawableWater(water []WaterSurface, zlo float64, un unitNames, res *Result) []WaterSurface {
+	var out []WaterSurface
+	for _, ws := range water {
 		if !finite(ws.Stage) {
 			res.Warnings = append(res.Warnings, "a water surface without a finite stage was left out")
 			continue
@@ -80,95 +123,109 @@ func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("water surface %s %s is at or below the lowest ground: not drawn", fmtStage(ws.Stage), un.length))
 			continue
 		}
-		water = append(water, ws)
-		zhi = math.Max(zhi, ws.Stage)
+		out = append(out, ws)
 	}
+	return out
+}
 
-	p := newPanel("", "Station from the left end, looking downstream, "+un.length, "Elevation, "+un.length)
-	addGrid(p)
-	p.Add(groundFill{pts: pts})
+// waterDashes are the dash patterns of successive water surfaces.
+func waterDashes(i int) []vg.Length {
+	return [][]vg.Length{nil, {vg.Points(8), vg.Points(3)}, {vg.Points(3), vg.Points(2)}, {vg.Points(10), vg.Points(3), vg.Points(2), vg.Points(3)}}[i%4]
+}
+
+// addWaterSurfaces draws each water surface across its wetted reaches
+// (the pools that count, as s.Geometry says), shading those with Shade;
+// it returns the foot lines stating the shaded areas, and warns in res
+// of a shaded stage whose wetted area cannot be computed.
+func addWaterSurfaces(p *plot.Plot, prof *subdivide.Profile, s SectionPlot, water []WaterSurface, un unitNames, res *Result) []string {
 	var foot []string
 	for i, ws := range water {
-		pools := wetPools(pts, ws.Stage, !s.Geometry.NoExtend)
+		pools := wetPools(s.Section.Points, ws.Stage, !s.Geometry.NoExtend)
 		if !s.Geometry.AllPools {
 			pools = mainPool(pools, s.Section)
 		}
 		if ws.Shade {
-			for _, pool := range pools {
-				poly, err := plotter.NewPolygon(pool)
-				if err != nil {
-					continue
-				}
-				poly.Color = colWaterFill
-				poly.LineStyle.Width = 0
-				p.Add(poly)
-			}
+			shadePools(p, pools)
 			if wt, err := prof.At(ws.Stage, s.Geometry); err == nil {
-				line := fmt.Sprintf("Shaded: wetted area at %s %s%s — area %s %s, top width %s %s, wetted perimeter %s %s",
-					fmtStage(ws.Stage), un.length, labelSuffix(ws.Label), fmtNum(wt.Area), un.area,
-					fmtNum(wt.TopWidth), un.length, fmtNum(wt.WettedPerimeter), un.length)
-				if wt.Pools > 1 {
-					line += fmt.Sprintf(", %d separate pools", wt.Pools)
-				}
-				if wt.ExtendedLeft > 0 || wt.ExtendedRight > 0 {
-					line += "; the section's ends are extended by vertical walls"
-				}
-				foot = append(foot, line)
+				foot = append(foot, shadedLine(ws, wt, un))
 			} else {
 				res.Warnings = append(res.Warnings, fmt.Sprintf("wetted area at %s: %v", fmtStage(ws.Stage), err))
 			}
 		}
-		dashes := [][]vg.Length{nil, {vg.Points(8), vg.Points(3)}, {vg.Points(3), vg.Points(2)}, {vg.Points(10), vg.Points(3), vg.Points(2), vg.Points(3)}}[i%4]
-		p.Add(waterLine{pools: pools, stage: ws.Stage, label: fmtStage(ws.Stage) + labelSuffix(ws.Label), style: lineStyle(colWater, 1.6, dashes...)})
+		p.Add(waterLine{pools: pools, stage: ws.Stage, label: fmtStage(ws.Stage) + labelSuffix(ws.Label), style: lineStyle(colWater, 1.6, waterDashes(i)...)})
 	}
+	return foot
+}
 
+// shadePools fills each wetted pool.
+func shadePools(p *plot.Plot, pools []plotter.XYs) {
+	for _, pool := range pools {
+		poly, err := plotter.NewPolygon(pool)
+		if err != nil {
+			continue
+		}
+		poly.Color = colWaterFill
+		poly.LineStyle.Width = 0
+		p.Add(poly)
+	}
+}
+
+// shadedLine states the wetted area, top width and wetted perimeter of a
+// shaded water surface, its separate pools and extended ends.
+func shadedLine(ws WaterSurface, wt subdivide.Wetted, un unitNames) string {
+	line := fmt.Sprintf("Shaded: wetted area at %s %s%s — area %s %s, top width %s %s, wetted perimeter %s %s",
+		fmtStage(ws.Stage), un.length, labelSuffix(ws.Label), fmtNum(wt.Area), un.area,
+		fmtNum(wt.TopWidth), un.length, fmtNum(wt.WettedPerimeter), un.length)
+	if wt.Pools > 1 {
+		line += fmt.Sprintf(", %d separate pools", wt.Pools)
+	}
+	if wt.ExtendedLeft > 0 || wt.ExtendedRight > 0 {
+		line += "; the section's ends are extended by vertical walls"
+	}
+	return line
+}
+
+// addGroundLine draws the ground line with its surveyed points.
+func addGroundLine(p *plot.Plot, pts []subdivide.Point) error {
 	ground := make(plotter.XYs, len(pts))
 	for i, q := range pts {
 		ground[i] = plotter.XY{X: q.Station, Y: q.Elevation}
 	}
 	gl, gs, err := plotter.NewLinePoints(ground)
 	if err != nil {
-		return res, fmt.Errorf("plotting: section %q: %w", s.Section.Name, err)
+		return err
 	}
 	gl.LineStyle = lineStyle(colGround, 2)
 	gs.GlyphStyle = draw.GlyphStyle{Color: colGround, Radius: vg.Points(2.3), Shape: draw.CircleGlyph{}}
 	p.Add(gl, gs)
+	return nil
+}
 
-	// The thalweg: the lowest point (the first, when several tie).
+// thalwegIndex returns the index of the lowest point (the first, when
+// several tie).
+func thalwegIndex(pts []subdivide.Point) int {
 	low := 0
 	for i, q := range pts {
 		if q.Elevation < pts[low].Elevation {
 			low = i
 		}
 	}
-	p.Add(sectionDecor{subs: subs, pts: pts, sec: s.Section, thalweg: pts[low], marks: s.Marks, unit: un.length})
+	return low
+}
 
-	// Ranges: all of the ground and water, with headroom for the n labels.
-	span := zhi - zlo
-	if span <= 0 {
-		span = 1
+// subtitle is s.Subtitle, or else the section's points, subsections,
+// bank stations and thalweg (pts[low]).
+func (s SectionPlot) subtitle(nsubs, low int, un unitNames) string {
+	if s.Subtitle != "" {
+		return s.Subtitle
 	}
-	p.X.Min, p.X.Max = xlo, xhi
-	p.Y.Min, p.Y.Max = zlo-0.08*span, zhi+0.22*span
-	p.X.Padding, p.Y.Padding = 0, 0
-	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
-
+	pts := s.Section.Points
 	banks := "no bank stations"
 	if s.Section.HasBanks {
 		banks = fmt.Sprintf("banks at stations %s and %s %s", fmtNum(s.Section.LeftBank), fmtNum(s.Section.RightBank), un.length)
 	}
-	sub := s.Subtitle
-	if sub == "" {
-		sub = fmt.Sprintf("%d surveyed points, %d subsections, %s; thalweg %s %s at station %s",
-			len(pts), len(subs), banks, fmtStage(pts[low].Elevation), un.length, fmtNum(pts[low].Station))
-	}
-	fig := figure{title: titleOf(s.Site, s.Section.Name, "cross-section"), subtitle: sub, foot: foot}
-	err = render(w, s.Size, fig, func(c draw.Canvas) error {
-		setExaggeration(p, c)
-		p.Draw(c)
-		return nil
-	})
-	return res, err
+	return fmt.Sprintf("%d surveyed points, %d subsections, %s; thalweg %s %s at station %s",
+		len(pts), nsubs, banks, fmtStage(pts[low].Elevation), un.length, fmtNum(pts[low].Station))
 }
 
 func labelSuffix(l string) string {

@@ -85,107 +85,167 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // gauge_height) and discharge, and optional quality, note, uncertainty
 // (percent at 95 %, above 0 and below MaxUncertaintyPercent; blank: the
 // quality's band) and exclude (any text excludes the gauging from a fit
-// and is its reason), into gaugings. Every bad cell is reported, each
-// naming its row and column: a blank or unreadable time, stage or
-// discharge, a negative discharge, an unknown quality word, an
-// uncertainty that is not a number in range, and a time given twice.
+// and is its reason), into gaugings. Stage and discharge are read in the
+// units the headers say (Gaugings.Units). Every bad cell is reported, each
+// a *ParseError naming its row and column, joined: a blank or unreadable
+// time (ErrBadTime), stage or discharge (ErrNotNumber, ErrImplausible
+// beyond MaxElevation or rating.MaxDischarge), a negative discharge
+// (ErrNegativeDischarge), an unknown quality word, an uncertainty that is
+// not a number in range (ErrUncertainty), and a time given twice
+// (ErrDuplicateTime; times with offsets compare as instants). A missing
+// column is the error of Table.Require, a table without rows ErrEmpty.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	gs := Gaugings{File: t.File, Sheet: t.Sheet}
-	ct, err := t.Require(ColGaugingTime)
+	cols, err := gaugingColsOf(t)
 	if err != nil {
 		return gs, err
 	}
-	cs, err := t.Require(ColGaugingStage, ColGaugeHeight)
-	if err != nil {
-		return gs, err
-	}
-	cq, err := t.Require(ColGaugingDischarge)
-	if err != nil {
-		return gs, err
-	}
-	if gs.Units, err = t.HeaderUnits(cs, cq); err != nil {
+	if gs.Units, err = t.HeaderUnits(cols.stage, cols.discharge); err != nil {
 		return gs, err
 	}
 	gs.Site = t.Site()
-	cqual := t.Column(ColGaugingQuality)
-	cnote := t.Column(ColNote)
-	cunc, cexcl := t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
-	var errs errorList
-	add := func(rec Record, col int, err error) {
-		errs = append(errs, t.At(rec, col, err))
-	}
-	type instant struct {
-		sec  int64
-		nsec int
-	}
-	seen := map[instant]int{} // time → row; offsets count, so 10:00+01:00 is 09:00Z
-	number := func(rec Record, col int, what string, limit float64) (float64, bool) {
-		v, ok, err := t.Float(rec, col)
-		switch {
-		case err != nil:
-			errs = append(errs, err.(*ParseError))
-			return 0, false
-		case !ok:
-			add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
-		case math.Abs(v) > limit:
-			add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
-			return v, false
-		}
-		return v, ok
-	}
+	rd := &gaugingReader{t: t, cols: cols, seen: map[gaugingInstant]int{}}
 	for _, rec := range t.Records {
-		g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, cnote), Exclude: strings.TrimSpace(t.Cell(rec, cexcl))}
-		okAll := true
-		if s := t.Cell(rec, ct); s == "" {
-			add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
-			okAll = false
-		} else if tm, err := ParseTime(s, t.Sheet != "", t.Date1904); err != nil {
-			add(rec, ct, err)
-			okAll = false
-		} else {
-			g.Time = tm
-			key := instant{tm.Unix(), tm.Nanosecond()}
-			if prev, dup := seen[key]; dup {
-				add(rec, ct, fmt.Errorf("%w: the same time as row %d", ErrDuplicateTime, prev))
-			} else {
-				seen[key] = rec.Row
-			}
-		}
-		var ok bool
-		g.Stage, ok = number(rec, cs, "stage", MaxElevation)
-		okAll = okAll && ok
-		g.Discharge, ok = number(rec, cq, "discharge", rating.MaxDischarge)
-		okAll = okAll && ok
-		if ok && g.Discharge < 0 {
-			add(rec, cq, ErrNegativeDischarge)
-		}
-		if cqual >= 0 {
-			q, err := rating.ParseQuality(t.Cell(rec, cqual))
-			if err != nil {
-				add(rec, cqual, err)
-			}
-			g.Quality = q
-		}
-		if cunc >= 0 {
-			u, ok, err := t.Float(rec, cunc)
-			switch {
-			case err != nil:
-				errs = append(errs, err.(*ParseError))
-			case ok && !(u > 0 && u < MaxUncertaintyPercent):
-				add(rec, cunc, fmt.Errorf("%w: %g", ErrUncertainty, u))
-			case ok:
-				g.Uncertainty = u
-			}
-		}
-		if okAll {
+		if g, ok := rd.row(rec); ok {
 			gs.Gaugings = append(gs.Gaugings, g)
 		}
 	}
-	if len(errs) > 0 {
-		return gs, errs.err()
+	if len(rd.errs) > 0 {
+		return gs, rd.errs.err()
 	}
 	if len(gs.Gaugings) == 0 {
 		return gs, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
 	return gs, nil
+}
+
+// gaugingCols are the column indices of a gaugings table (-1 for an
+// optional column that is absent).
+type gaugingCols struct {
+	time, stage, discharge              int
+	quality, note, uncertainty, exclude int
+}
+
+// gaugingColsOf finds the columns of a gaugings table: time, stage (or
+// gauge_height) and discharge are required.
+func gaugingColsOf(t *Table) (gaugingCols, error) {
+	var c gaugingCols
+	var err error
+	if c.time, err = t.Require(ColGaugingTime); err != nil {
+		return c, err
+	}
+	if c.stage, err = t.Require(ColGaugingStage, ColGaugeHeight); err != nil {
+		return c, err
+	}
+	if c.discharge, err = t.Require(ColGaugingDischarge); err != nil {
+		return c, err
+	}
+	c.quality, c.note = t.Column(ColGaugingQuality), t.Column(ColNote)
+	c.uncertainty, c.exclude = t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
+	return c, nil
+}
+
+// gaugingInstant is a gauging's time as an instant: offsets count, so
+// 10:00+01:00 is 09:00Z.
+type gaugingInstant struct {
+	sec  int64
+	nsec int
+}
+
+// gaugingReader reads the rows of a gaugings table, gathering the errors
+// of every cell.
+type gaugingReader struct {
+	t    *Table
+	cols gaugingCols
+	// seen holds the row of every time read.
+	seen map[gaugingInstant]int
+	errs errorList
+}
+
+// add records the error of a cell.
+func (rd *gaugingReader) add(rec Record, col int, err error) {
+	rd.errs = append(rd.errs, rd.t.At(rec, col, err))
+}
+
+// row reads one gauging; false when its time, stage or discharge cannot
+// be read (the other cells' errors are recorded all the same).
+func (rd *gaugingReader) row(rec Record) (gauged.Gauging, bool) {
+	t, c := rd.t, rd.cols
+	g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, c.note), Exclude: strings.TrimSpace(t.Cell(rec, c.exclude))}
+	okAll := rd.time(rec, &g)
+	var ok bool
+	g.Stage, ok = rd.number(rec, c.stage, "stage", MaxElevation)
+	okAll = okAll && ok
+	g.Discharge, ok = rd.number(rec, c.discharge, "discharge", rating.MaxDischarge)
+	okAll = okAll && ok
+	if ok && g.Discharge < 0 {
+		rd.add(rec, c.discharge, ErrNegativeDischarge)
+	}
+	if c.quality >= 0 {
+		q, err := rating.ParseQuality(t.Cell(rec, c.quality))
+		if err != nil {
+			rd.add(rec, c.quality, err)
+		}
+		g.Quality = q
+	}
+	if c.uncertainty >= 0 {
+		rd.uncertainty(rec, &g)
+	}
+	return g, okAll
+}
+
+// time reads the gauging's time into g; false when it is blank or
+// unreadable. A time read before is an error but still read.
+func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
+	t, ct := rd.t, rd.cols.time
+	s := t.Cell(rec, ct)
+	if s == "" {
+		rd.add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
+		return false
+	}
+	tm, err := ParseTime(s, t.Sheet != "", t.Date1904)
+	if err != nil {
+		rd.add(rec, ct, err)
+		return false
+	}
+	g.Time = tm
+	key := gaugingInstant{tm.Unix(), tm.Nanosecond()}
+	if prev, dup := rd.seen[key]; dup {
+		rd.add(rec, ct, fmt.Errorf("%w: the same time as row %d", ErrDuplicateTime, prev))
+	} else {
+		rd.seen[key] = rec.Row
+	}
+	return true
+}
+
+// number reads the number in column col, what naming it; false when it
+// is blank, unreadable or beyond ±limit.
+func (rd *gaugingReader) number(rec Record, col int, what string, limit float64) (float64, bool) {
+	v, ok, err := rd.t.Float(rec, col)
+	switch {
+	case err != nil:
+		rd.errs = append(rd.errs, err.(*ParseError))
+		return 0, false
+	case !ok:
+		rd.add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
+	case math.Abs(v) > limit:
+		rd.add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
+		return v, false
+	}
+	return v, ok
+}
+
+// uncertainty reads the gauging's uncertainty into g when given and in
+// range.
+func (rd *gaugingReader) uncertainty(rec Record, g *gauged.Gauging) {
+	cu := rd.cols.uncertainty
+	u, ok, err := rd.t.Float(rec, cu)
+	switch {
+	case err != nil:
+		rd.errs = append(rd.errs, err.(*ParseError))
+	case ok && !(u > 0 && u < MaxUncertaintyPercent):
+		rd.add(rec, cu, fmt.Errorf("%w: %g", ErrUncertainty, u))
+	case ok:
+		g.Uncertainty = u
+	}
 }

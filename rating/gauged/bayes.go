@@ -367,116 +367,25 @@ func (b *bayesProblem) logPost(x []float64) float64 {
 	return lp
 }
 
-// resolvePriors sets the prior of every parameter and the free list.
-// est is the least-squares estimate (full vector) or nil.
+// resolvePriors sets the prior of every parameter and the free list:
+// the breakpoints first (they bound the controls' ranges), then the first
+// offset, each control's ln A and C, and the remnant; with FlatPriors
+// every prior that is not held becomes flat. est is the least-squares
+// estimate (full vector) or nil. The error is BankStage's, or
+// ErrBayesOptions for a floodplain control on a section without
+// overbanks.
 func (b *bayesProblem) resolvePriors(est []float64) error {
-	m, d, o := b.m, b.d, b.opt
-	k := m.k()
+	m := b.m
 	b.priors = make([]prior, m.fullLen())
-	b.sources = make([]string, k)
-	b.informative = make([]bool, k)
-	given := func(j int) ControlPrior {
-		if o.Priors == nil {
-			return ControlPrior{}
-		}
-		return o.Priors[j]
+	b.sources = make([]string, m.k())
+	b.informative = make([]bool, m.k())
+	if err := b.breakPriors(); err != nil {
+		return err
 	}
-	// Breakpoints first: they bound the controls' ranges.
-	for j := 1; j < k; j++ {
-		i := m.iBreak(j)
-		switch {
-		case o.Breaks != nil:
-			b.priors[i] = prior{mean: o.Breaks[j-1], fixed: true}
-		case given(j).Break.given():
-			b.priors[i] = fromParam(given(j).Break)
-		case m.joints[j] == Add && o.Hydraulic != nil:
-			bank, ok, err := BankStage(*o.Hydraulic)
-			if err != nil {
-				return err
-			}
-			if !ok {
-				return fmt.Errorf("%w: control %d adds a floodplain but the section has no overbanks: give its breakpoint", ErrBayesOptions, j+1)
-			}
-			b.priors[i] = prior{mean: bank, sd: BankPriorFraction * (bank - o.Hydraulic.Bottom()), lo: math.Inf(-1), hi: math.Inf(1)}
-		default:
-			b.priors[i] = prior{mean: math.NaN(), sd: math.Inf(1), lo: d.lo, hi: d.hi}
-		}
-	}
-	breakAt := func(j int) float64 {
-		p := b.priors[m.iBreak(j)]
-		switch {
-		case finite(p.mean):
-			return p.mean
-		case est != nil:
-			return est[m.iBreak(j)]
-		}
-		return d.lo + (d.hi-d.lo)*float64(j)/float64(k)
-	}
-	// The first offset.
-	ib := m.iB()
-	bottom, hasBottom := b.surveyBottom(0)
-	switch {
-	case o.OffsetFixed:
-		b.priors[ib] = prior{mean: o.Offset, fixed: true}
-	case given(0).Offset.given():
-		b.priors[ib] = fromParam(given(0).Offset)
-	case hasBottom:
-		to := d.hi
-		if k > 1 {
-			to = breakAt(1)
-		}
-		b.priors[ib] = prior{mean: bottom, sd: OffsetPriorFraction * math.Max(to-bottom, 0), lo: math.Inf(-1), hi: math.Inf(1)}
-		if !(b.priors[ib].sd > 0) {
-			b.priors[ib].sd = math.Inf(1)
-		}
-	default:
-		b.priors[ib] = flat()
-	}
-	// Coefficients and exponents.
-	for j := 0; j < k; j++ {
-		from := b.priors[ib].mean
-		if j == 0 && !finite(from) {
-			from = d.lo
-			if est != nil {
-				from = est[ib]
-			}
-		}
-		if j > 0 {
-			from = breakAt(j)
-		}
-		to := d.hi
-		if j+1 < k {
-			to = breakAt(j + 1)
-		} else if ref := referenceOf(o.Hydraulic, o.HydraulicTable); ref.ok() {
-			to = math.Max(ref.top(), to)
-		}
-		derived, src, err := b.derivedPrior(j, from, to)
-		if err != nil {
-			b.warn = append(b.warn, fmt.Sprintf("control %d: %v: weak priors instead", j+1, err))
-		}
-		gp := given(j)
-		lnA, c := derived.LogCoefficient, derived.Exponent
-		if gp.LogCoefficient.given() {
-			lnA, src = gp.LogCoefficient, "given"
-		}
-		if gp.Exponent.given() {
-			c = gp.Exponent
-		}
-		if gp.Source != "" {
-			src = gp.Source
-		}
-		b.priors[m.iLnA(j)], b.priors[m.iC(j)] = fromParam(lnA), fromParam(c)
-		b.sources[j] = src
-		b.informative[j] = (derived.Source != "" || gp.LogCoefficient.given()) && !o.FlatPriors
-	}
-	// The remnant.
-	ir := m.iRemnant()
-	if o.RemnantFixed {
-		b.priors[ir] = prior{mean: math.Log(o.Remnant), fixed: true}
-	} else {
-		b.priors[ir] = prior{mean: math.Log(o.RemnantMedian), sd: o.RemnantLogSD, lo: math.Inf(-1), hi: math.Inf(1)}
-	}
-	if o.FlatPriors {
+	b.offsetPrior(est)
+	b.controlPriors(est)
+	b.remnantPrior()
+	if b.opt.FlatPriors {
 		for i := range b.priors {
 			if !b.priors[i].fixed {
 				b.priors[i] = flat()
@@ -491,6 +400,145 @@ func (b *bayesProblem) resolvePriors(est []float64) error {
 		}
 	}
 	return nil
+}
+
+// givenPrior returns the prior the options give control j (none when
+// they give no priors).
+func (b *bayesProblem) givenPrior(j int) ControlPrior {
+	if b.opt.Priors == nil {
+		return ControlPrior{}
+	}
+	return b.opt.Priors[j]
+}
+
+// breakPriors sets the prior of every breakpoint: held at a given
+// breakpoint, as given, at the bank stage (BankStage, with a standard
+// deviation of BankPriorFraction of the bank's height above the bottom)
+// for a floodplain control that adds, else uniform over the gauged
+// stages.
+func (b *bayesProblem) breakPriors() error {
+	m, d, o := b.m, b.d, b.opt
+	for j := 1; j < m.k(); j++ {
+		i := m.iBreak(j)
+		switch {
+		case o.Breaks != nil:
+			b.priors[i] = prior{mean: o.Breaks[j-1], fixed: true}
+		case b.givenPrior(j).Break.given():
+			b.priors[i] = fromParam(b.givenPrior(j).Break)
+		case m.joints[j] == Add && o.Hydraulic != nil:
+			bank, ok, err := BankStage(*o.Hydraulic)
+			if err != nil {
+				return err
+			}
+			if !ok {
+				return fmt.Errorf("%w: control %d adds a floodplain but the section has no overbanks: give its breakpoint", ErrBayesOptions, j+1)
+			}
+			b.priors[i] = prior{mean: bank, sd: BankPriorFraction * (bank - o.Hydraulic.Bottom()), lo: math.Inf(-1), hi: math.Inf(1)}
+		default:
+			b.priors[i] = prior{mean: math.NaN(), sd: math.Inf(1), lo: d.lo, hi: d.hi}
+		}
+	}
+	return nil
+}
+
+// breakGuess is the best guess of breakpoint j (gauge height): its
+// prior's mean, else the least-squares estimate est, else a point
+// dividing the gauged stages evenly. The break priors must be set.
+func (b *bayesProblem) breakGuess(j int, est []float64) float64 {
+	m, d := b.m, b.d
+	p := b.priors[m.iBreak(j)]
+	switch {
+	case finite(p.mean):
+		return p.mean
+	case est != nil:
+		return est[m.iBreak(j)]
+	}
+	return d.lo + (d.hi-d.lo)*float64(j)/float64(m.k())
+}
+
+// offsetPrior sets the prior of the first offset: held when fixed, as
+// given, about the survey's lowest point (standard deviation
+// OffsetPriorFraction of the height from it to the first control's top),
+// else flat.
+func (b *bayesProblem) offsetPrior(est []float64) {
+	m, d, o := b.m, b.d, b.opt
+	ib := m.iB()
+	bottom, hasBottom := b.surveyBottom(0)
+	switch {
+	case o.OffsetFixed:
+		b.priors[ib] = prior{mean: o.Offset, fixed: true}
+	case b.givenPrior(0).Offset.given():
+		b.priors[ib] = fromParam(b.givenPrior(0).Offset)
+	case hasBottom:
+		to := d.hi
+		if m.k() > 1 {
+			to = b.breakGuess(1, est)
+		}
+		b.priors[ib] = prior{mean: bottom, sd: OffsetPriorFraction * math.Max(to-bottom, 0), lo: math.Inf(-1), hi: math.Inf(1)}
+		if !(b.priors[ib].sd > 0) {
+			b.priors[ib].sd = math.Inf(1)
+		}
+	default:
+		b.priors[ib] = flat()
+	}
+}
+
+// controlPriors sets the priors of every control's ln A and C over its
+// range of gauge heights: as given, else derived from the survey
+// (derivedPrior), else weak ones (with a warning when the survey gives
+// none). It also records each control's prior source and whether its
+// priors are informative. The offset and break priors must be set.
+func (b *bayesProblem) controlPriors(est []float64) {
+	m, d, o := b.m, b.d, b.opt
+	k, ib := m.k(), m.iB()
+	for j := 0; j < k; j++ {
+		from := b.priors[ib].mean
+		if j == 0 && !finite(from) {
+			from = d.lo
+			if est != nil {
+				from = est[ib]
+			}
+		}
+		if j > 0 {
+			from = b.breakGuess(j, est)
+		}
+		to := d.hi
+		if j+1 < k {
+			to = b.breakGuess(j+1, est)
+		} else if ref := referenceOf(o.Hydraulic, o.HydraulicTable); ref.ok() {
+			to = math.Max(ref.top(), to)
+		}
+		derived, src, err := b.derivedPrior(j, from, to)
+		if err != nil {
+			b.warn = append(b.warn, fmt.Sprintf("control %d: %v: weak priors instead", j+1, err))
+		}
+		gp := b.givenPrior(j)
+		lnA, c := derived.LogCoefficient, derived.Exponent
+		if gp.LogCoefficient.given() {
+			lnA, src = gp.LogCoefficient, "given"
+		}
+		if gp.Exponent.given() {
+			c = gp.Exponent
+		}
+		if gp.Source != "" {
+			src = gp.Source
+		}
+		b.priors[m.iLnA(j)], b.priors[m.iC(j)] = fromParam(lnA), fromParam(c)
+		b.sources[j] = src
+		b.informative[j] = (derived.Source != "" || gp.LogCoefficient.given()) && !o.FlatPriors
+	}
+}
+
+// remnantPrior sets the prior of ln σ_r: held at a fixed remnant, else
+// normal about ln RemnantMedian with standard deviation RemnantLogSD (a
+// log-normal prior of σ_r).
+func (b *bayesProblem) remnantPrior() {
+	o, ir := b.opt, b.m.iRemnant()
+	if o.RemnantFixed {
+		b.priors[ir] = prior{mean: math.Log(o.Remnant), fixed: true}
+	} else {
+		b.priors[ir] = prior{mean: math.Log(o.RemnantMedian), sd: o.RemnantLogSD, lo: math.Inf(-1), hi: math.Inf(1)}
+	}
 }
 
 // surveyBottom returns the survey's lowest point of control j's section

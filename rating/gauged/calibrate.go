@@ -57,10 +57,28 @@ type Calibration struct {
 // ErrCalibrate is returned when no gauging can calibrate n.
 var ErrCalibrate = errors.New("no gauging can calibrate n")
 
-// Calibrate back-calculates n from gaugings on the hydraulic rating c (see
-// Calibration). Gaugings with zero discharge are left out; a gauging
-// whose Exclude is not blank keeps its own factor but is left out of the
-// best one. Weights are 1/σ² with σ the gauging's LogSigma.
+// Calibrate back-calculates Manning's n from gaugings on the hydraulic
+// rating c (see Calibration): for each gauging, the factor on the scaled
+// subsections' n (every subsection's, or the channel's alone with
+// channelOnly) that makes the computed discharge equal the measured one,
+// and the best single factor over the gaugings, with weights 1/σ² from
+// each gauging's LogSigma. Gauge heights are in c's length unit (c.Datum
+// relates them to the survey's elevations), discharges in its discharge
+// unit; factors are dimensionless. Gaugings with zero discharge, a dry
+// scaled part or a measured discharge not above what the unscaled part
+// carries get no factor, with a warning; a gauging whose Exclude is not
+// blank keeps its own factor but is left out of the best one.
+//
+// Errors: the errors of c at each gauging's gauge height, joined (naming
+// the gauging); ErrCalibrate when no gauging can calibrate n; an error of
+// gonum/optimize when the search for the channel's factor fails.
+//
+// References:
+//
+//	Chow, V. T. (1959). Open-Channel Hydraulics. McGraw-Hill, New York
+//	(Manning's equation, conveyance ∝ 1/n).
+//	Nelder, J. A., Mead, R. (1965). A simplex method for function
+//	minimization. The Computer Journal 7(4), 308–313.
 func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibration, error) {
 	return calibrate(gs, c, channelOnly, Selection{})
 }
@@ -69,58 +87,23 @@ func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibra
 // selects.
 func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Selection) (Calibration, error) {
 	cal := Calibration{ChannelOnly: channelOnly, Factor: math.NaN(), StandardErrorPercent: math.NaN()}
-	if channelOnly {
-		has := false
-		for _, s := range c.Geometry.Subsections() {
-			if s.Region != subdivide.Channel {
-				has = true
-			}
-		}
-		if !has {
-			cal.Warnings = append(cal.Warnings, "the section has no bank stations: all of it is channel, so every n is scaled")
-		}
+	if channelOnly && !hasOverbanks(c) {
+		cal.Warnings = append(cal.Warnings, "the section has no bank stations: all of it is channel, so every n is scaled")
 	}
-	type part struct{ qs, qo, qm, w float64 }
-	var parts []part
 	scaled := rating.ScaledN{Factor: 1, ChannelOnly: channelOnly}
+	var parts []calibrationPart
 	var errs []error
-	var swl, sw float64
 	for _, g := range gs {
-		pt := NPoint{Gauging: g, Factor: math.NaN(), N: math.NaN(), Rated: math.NaN(), Subsection: -1}
-		r, err := c.Row(g.Stage)
+		pt, part, warning, err := nPointOf(g, c, scaled, sel)
 		if err != nil {
-			errs = append(errs, fmt.Errorf("%s: gauge height %g: %w", g.label(), g.Stage, err))
+			errs = append(errs, err)
 			continue
 		}
-		pt.Rated = r.Discharge
-		var qs, qo, kmax float64
-		for i, s := range r.Subs {
-			if scaled.Scales(s.Region) {
-				qs += s.Discharge
-				if s.Conveyance > kmax {
-					kmax, pt.Subsection = s.Conveyance, i
-				}
-			} else {
-				qo += s.Discharge
-			}
+		if warning != "" {
+			cal.Warnings = append(cal.Warnings, warning)
 		}
-		switch {
-		case !(g.Discharge > 0):
-			cal.Warnings = append(cal.Warnings, fmt.Sprintf("%s: zero discharge: left out of the calibration", g.label()))
-		case !(qs > 0):
-			cal.Warnings = append(cal.Warnings, fmt.Sprintf("%s: gauge height %g: the scaled subsections are dry: no factor on n", g.label(), g.Stage))
-		case !(g.Discharge > qo):
-			cal.Warnings = append(cal.Warnings, fmt.Sprintf("%s: the measured %g is not above the %g the unscaled subsections carry: no factor on the channel's n fits", g.label(), g.Discharge, qo))
-		case sel.Reason(g) != "":
-			pt.Factor = qs / (g.Discharge - qo)
-			pt.N = pt.Factor * r.Subs[pt.Subsection].N
-		default:
-			pt.Factor = qs / (g.Discharge - qo)
-			pt.N = pt.Factor * r.Subs[pt.Subsection].N
-			w := 1 / (g.LogSigma() * g.LogSigma())
-			parts = append(parts, part{qs, qo, g.Discharge, w})
-			swl += w * math.Log(r.Discharge/g.Discharge)
-			sw += w
+		if part != nil {
+			parts = append(parts, *part)
 		}
 		cal.Points = append(cal.Points, pt)
 	}
@@ -133,34 +116,112 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 		}
 		return cal, ErrCalibrate
 	}
-	ssr := func(lf float64) float64 {
-		f := math.Exp(lf)
-		var s float64
-		for _, p := range parts {
-			d := math.Log(p.qm) - math.Log(p.qs/f+p.qo)
-			s += p.w * d * d
-		}
-		return s
-	}
+	swl, sw := weightedLogRatio(parts)
 	lf := swl / sw
 	if channelOnly {
-		res, err := optimize.Minimize(optimize.Problem{Func: func(x []float64) float64 { return ssr(x[0]) }},
-			[]float64{lf}, &optimize.Settings{
-				Converger:       &optimize.FunctionConverge{Relative: fitRelTol, Iterations: fitStall},
-				MajorIterations: 5000,
-			}, &optimize.NelderMead{SimplexSize: 0.05})
-		if res == nil {
-			return cal, fmt.Errorf("calibration: %w", err)
-		}
-		if res.F <= ssr(lf) {
-			lf = res.X[0]
+		var err error
+		if lf, err = searchLogFactor(parts, lf); err != nil {
+			return cal, err
 		}
 	}
 	cal.Factor = math.Exp(lf)
 	if n := len(parts); n > 1 {
 		// Weights normalised to mean one, as in Fit.
-		s := math.Sqrt(ssr(lf) * float64(n) / sw / float64(n-1))
+		s := math.Sqrt(calibrationSSR(parts, lf) * float64(n) / sw / float64(n-1))
 		cal.StandardErrorPercent = 100 * math.Sinh(s)
 	}
 	return cal, nil
+}
+
+// hasOverbanks reports a subsection of c outside the channel.
+func hasOverbanks(c rating.HydraulicCurve) bool {
+	has := false
+	for _, s := range c.Geometry.Subsections() {
+		if s.Region != subdivide.Channel {
+			has = true
+		}
+	}
+	return has
+}
+
+// calibrationPart is a gauging's share of the best factor: the discharge
+// qs of the scaled subsections and qo of the others at the survey's n,
+// the measured qm, the rated discharge and the weight w.
+type calibrationPart struct{ qs, qo, qm, rated, w float64 }
+
+// nPointOf back-calculates one gauging's factor on n: its point, its
+// part in the best factor (nil when it has none or is left out of it),
+// and a warning when it gets no factor. The error is c's at its gauge
+// height.
+func nPointOf(g Gauging, c rating.HydraulicCurve, scaled rating.ScaledN, sel Selection) (NPoint, *calibrationPart, string, error) {
+	pt := NPoint{Gauging: g, Factor: math.NaN(), N: math.NaN(), Rated: math.NaN(), Subsection: -1}
+	r, err := c.Row(g.Stage)
+	if err != nil {
+		return pt, nil, "", fmt.Errorf("%s: gauge height %g: %w", g.label(), g.Stage, err)
+	}
+	pt.Rated = r.Discharge
+	var qs, qo, kmax float64
+	for i, s := range r.Subs {
+		if scaled.Scales(s.Region) {
+			qs += s.Discharge
+			if s.Conveyance > kmax {
+				kmax, pt.Subsection = s.Conveyance, i
+			}
+		} else {
+			qo += s.Discharge
+		}
+	}
+	switch {
+	case !(g.Discharge > 0):
+		return pt, nil, fmt.Sprintf("%s: zero discharge: left out of the calibration", g.label()), nil
+	case !(qs > 0):
+		return pt, nil, fmt.Sprintf("%s: gauge height %g: the scaled subsections are dry: no factor on n", g.label(), g.Stage), nil
+	case !(g.Discharge > qo):
+		return pt, nil, fmt.Sprintf("%s: the measured %g is not above the %g the unscaled subsections carry: no factor on the channel's n fits", g.label(), g.Discharge, qo), nil
+	}
+	pt.Factor = qs / (g.Discharge - qo)
+	pt.N = pt.Factor * r.Subs[pt.Subsection].N
+	if sel.Reason(g) != "" {
+		return pt, nil, "", nil
+	}
+	w := 1 / (g.LogSigma() * g.LogSigma())
+	return pt, &calibrationPart{qs: qs, qo: qo, qm: g.Discharge, rated: r.Discharge, w: w}, "", nil
+}
+
+// weightedLogRatio returns Σwᵢ·ln(Qrᵢ/Qmᵢ) and Σwᵢ over the parts: their
+// ratio is the best ln f when every n is scaled.
+func weightedLogRatio(parts []calibrationPart) (swl, sw float64) {
+	for _, p := range parts {
+		swl += p.w * math.Log(p.rated/p.qm)
+		sw += p.w
+	}
+	return swl, sw
+}
+
+// calibrationSSR is Σwᵢ·(ln Qmᵢ − ln(Qsᵢ/f + Qoᵢ))² at ln f = lf.
+func calibrationSSR(parts []calibrationPart, lf float64) float64 {
+	f := math.Exp(lf)
+	var s float64
+	for _, p := range parts {
+		d := math.Log(p.qm) - math.Log(p.qs/f+p.qo)
+		s += p.w * d * d
+	}
+	return s
+}
+
+// searchLogFactor minimises calibrationSSR over ln f by Nelder–Mead from
+// lf, returning lf itself unless the search does better.
+func searchLogFactor(parts []calibrationPart, lf float64) (float64, error) {
+	res, err := optimize.Minimize(optimize.Problem{Func: func(x []float64) float64 { return calibrationSSR(parts, x[0]) }},
+		[]float64{lf}, &optimize.Settings{
+			Converger:       &optimize.FunctionConverge{Relative: fitRelTol, Iterations: fitStall},
+			MajorIterations: 5000,
+		}, &optimize.NelderMead{SimplexSize: 0.05})
+	if res == nil {
+		return lf, fmt.Errorf("calibration: %w", err)
+	}
+	if res.F <= calibrationSSR(parts, lf) {
+		return res.X[0], nil
+	}
+	return lf, nil
 }

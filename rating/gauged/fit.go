@@ -192,22 +192,89 @@ type fitProblem struct {
 	lo, hi   float64 // lowest and highest stage
 }
 
-// FitPowerLaw fits a rating Q = C·(h − e)^b of one to three segments to
-// gaugings (see Fit). Gaugings with zero discharge are left out with a
-// warning; a gauging at or below a fixed e is an error naming it.
+// FitPowerLaw fits a rating of one to three power-law segments,
+//
+//	Q = Cⱼ·(h − e)^bⱼ   for Bⱼ₋₁ ≤ h ≤ Bⱼ,
+//
+// continuous at the breakpoints Bⱼ and with one gauge height of zero flow
+// e for all segments, to gaugings by weighted least squares in ln Q (see
+// Fit for the form, the weights and the search). Stages, e and the
+// breakpoints are gauge heights (length unit of opt.Units), discharges
+// are in its discharge unit and each Cⱼ in discharge unit per length
+// unit^bⱼ. Gaugings with zero discharge are left out with a warning.
+// When the breakpoints are fitted and there are fewer than MaxSegments
+// segments, a fit of one more segment is tried and compared by an F test
+// (Fit.MoreSegmentsF, Fit.MoreSegmentsP); a significant gain at
+// PoorFitLevel marks the fit poor, with a warning.
+//
+// Preconditions: opt.Segments is 0 (one segment, or len(opt.Breaks)+1) or
+// 1 to MaxSegments; given breakpoints ascend, one fewer than the
+// segments, each segment holding MinPerSegment gaugings.
+//
+// Errors: ErrSegments for a bad number of segments or bad breakpoints;
+// an error naming each gauging with a non-finite stage or discharge or a
+// negative discharge, and each at or below a fixed e (ErrBelowZero),
+// joined; ErrFewGaugings for fewer gaugings than the parameters and
+// segments need, for gaugings all at one stage, or when no admissible
+// start or segments exist.
+//
+// References:
+//
+//	ISO 18320:2020. Hydrometry — Measurement of liquid flow in open
+//	channels — Determination of the stage–discharge relationship.
+//	International Organization for Standardization, Geneva.
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. U.S.
+//	Geological Survey Techniques of Water-Resources Investigations,
+//	Book 3, Chapter A10.
+//	Nelder, J. A., Mead, R. (1965). A simplex method for function
+//	minimization. The Computer Journal 7(4), 308–313.
 func FitPowerLaw(gs []Gauging, opt FitOptions) (*Fit, error) {
+	k, err := segmentCount(opt)
+	if err != nil {
+		return nil, err
+	}
+	f := newFit(opt)
+	p := &fitProblem{segments: k, opt: opt}
+	if err := p.load(gs, f); err != nil {
+		return nil, err
+	}
+	if err := p.admissible(f); err != nil {
+		return nil, err
+	}
+	theta, ssr, err := p.solve()
+	if err != nil {
+		return nil, err
+	}
+	f.theta = theta
+	f.finish(p, ssr, gs)
+	if !opt.noTest && opt.Breaks == nil && k < MaxSegments && f.N >= (k+1)*MinPerSegment && f.N > f.Params+3 && ssr > fitZeroSSR*float64(f.N) {
+		f.testMoreSegments(gs, opt, k, ssr)
+	}
+	return f, nil
+}
+
+// segmentCount returns the number of segments opt asks for, checking it
+// and the order of given breakpoints (ErrSegments).
+func segmentCount(opt FitOptions) (int, error) {
 	k := opt.Segments
 	if k == 0 {
 		k = len(opt.Breaks) + 1
 	}
 	if k < 1 || k > MaxSegments || (opt.Breaks != nil && len(opt.Breaks) != k-1) {
-		return nil, fmt.Errorf("%w (asked for %d segments and %d breakpoints)", ErrSegments, k, len(opt.Breaks))
+		return 0, fmt.Errorf("%w (asked for %d segments and %d breakpoints)", ErrSegments, k, len(opt.Breaks))
 	}
 	for i := 1; i < len(opt.Breaks); i++ {
 		if !(opt.Breaks[i] > opt.Breaks[i-1]) {
-			return nil, fmt.Errorf("%w: %g then %g", ErrSegments, opt.Breaks[i-1], opt.Breaks[i])
+			return 0, fmt.Errorf("%w: %g then %g", ErrSegments, opt.Breaks[i-1], opt.Breaks[i])
 		}
 	}
+	return k, nil
+}
+
+// newFit returns an empty fit with the settings of opt: whether e and
+// the breakpoints are held, where a held e came from, and NaN for every
+// statistic not yet computed.
+func newFit(opt FitOptions) *Fit {
 	f := &Fit{Units: opt.Units, ZeroFlowFixed: opt.ZeroFlowFixed, BreaksFixed: opt.Breaks != nil,
 		MoreSegmentsF: math.NaN(), MoreSegmentsP: math.NaN(), ZeroFlowSE: math.NaN()}
 	f.ZeroFlowSource = "fitted"
@@ -217,7 +284,15 @@ func FitPowerLaw(gs []Gauging, opt FitOptions) (*Fit, error) {
 			f.ZeroFlowSource = "given"
 		}
 	}
-	p := &fitProblem{segments: k, opt: opt}
+	return f
+}
+
+// load takes the gaugings with discharge above zero into p, sorted by
+// stage, with ln Q and quality weights normalised to mean 1; it warns in
+// f of each gauging with zero discharge and returns the errors of the
+// unusable ones, joined.
+func (p *fitProblem) load(gs []Gauging, f *Fit) error {
+	opt := p.opt
 	type idx struct {
 		h float64
 		i int
@@ -237,7 +312,7 @@ func FitPowerLaw(gs []Gauging, opt FitOptions) (*Fit, error) {
 		}
 	}
 	if len(errs) > 0 {
-		return nil, errors.Join(errs...)
+		return errors.Join(errs...)
 	}
 	sort.SliceStable(order, func(a, b int) bool { return order[a].h < order[b].h })
 	var wsum float64
@@ -251,49 +326,64 @@ func FitPowerLaw(gs []Gauging, opt FitOptions) (*Fit, error) {
 	for i := range p.w {
 		p.w[i] *= float64(len(p.w)) / wsum
 	}
-	n := len(p.h)
+	return nil
+}
+
+// admissible checks that the loaded gaugings can determine the fit:
+// enough of them for the parameters and segments (ErrFewGaugings), more
+// than one stage, and given breakpoints inside them that leave every
+// segment MinPerSegment gaugings (ErrSegments). It sets the stage range
+// of p and f and f's counts.
+func (p *fitProblem) admissible(f *Fit) error {
+	n, k := len(p.h), p.segments
 	f.N = n
 	f.Params = p.nParams()
 	if n < f.Params+1 || n < k*MinPerSegment {
-		return nil, fmt.Errorf("%w: %d gaugings with discharge above zero for %d parameters and %d segments of at least %d gaugings each",
+		return fmt.Errorf("%w: %d gaugings with discharge above zero for %d parameters and %d segments of at least %d gaugings each",
 			ErrFewGaugings, n, f.Params, k, MinPerSegment)
 	}
 	p.lo, p.hi = p.h[0], p.h[n-1]
 	if !(p.hi > p.lo) {
-		return nil, fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, p.lo)
+		return fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, p.lo)
 	}
 	f.LowStage, f.HighStage = p.lo, p.hi
-	for _, b := range opt.Breaks {
+	for _, b := range p.opt.Breaks {
 		if !(b > p.lo && b < p.hi) || p.count(b) < MinPerSegment {
-			return nil, fmt.Errorf("%w: breakpoint %g leaves a segment with fewer than %d of the gaugings (%g to %g)", ErrSegments, b, MinPerSegment, p.lo, p.hi)
+			return fmt.Errorf("%w: breakpoint %g leaves a segment with fewer than %d of the gaugings (%g to %g)", ErrSegments, b, MinPerSegment, p.lo, p.hi)
 		}
 	}
-	theta, ssr, err := p.solve()
+	return nil
+}
+
+// testMoreSegments fits k+1 segments to the same gaugings and compares
+// the two by the F test of nested models,
+//
+//	F = ((SSR_k − SSR_k+1)/(p_k+1 − p_k)) / (SSR_k+1/(n − p_k+1)),
+//
+// setting MoreSegmentsF and MoreSegmentsP, and PoorFit with a warning
+// when P < PoorFitLevel. ssr is the k-segment fit's residual sum of
+// squares. Nothing is set when the larger fit fails or is no better.
+func (f *Fit) testMoreSegments(gs []Gauging, opt FitOptions, k int, ssr float64) {
+	more := opt
+	more.Segments, more.noTest = k+1, true
+	g, err := FitPowerLaw(gs, more)
 	if err != nil {
-		return nil, err
+		return
 	}
-	f.theta = theta
-	f.finish(p, ssr, gs)
-	if !opt.noTest && opt.Breaks == nil && k < MaxSegments && n >= (k+1)*MinPerSegment && n > f.Params+3 && ssr > fitZeroSSR*float64(n) {
-		more := opt
-		more.Segments, more.noTest = k+1, true
-		if g, err := FitPowerLaw(gs, more); err == nil {
-			ssr2 := g.StandardErrorLog * g.StandardErrorLog * float64(g.N-g.Params)
-			d1, d2 := float64(g.Params-f.Params), float64(g.N-g.Params)
-			if ssr2 > 0 && ssr2 < ssr {
-				fs := ((ssr - ssr2) / d1) / (ssr2 / d2)
-				f.MoreSegmentsF = fs
-				f.MoreSegmentsP = distuv.F{D1: d1, D2: d2}.Survival(fs)
-				if f.MoreSegmentsP < PoorFitLevel {
-					f.PoorFit = true
-					f.Warnings = append(f.Warnings, fmt.Sprintf(
-						"%d segment(s) fit these gaugings poorly: %d segments cut the standard error from %.1f %% to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more segments",
-						k, k+1, f.StandardErrorPercent, g.StandardErrorPercent, fs, f.MoreSegmentsP, PoorFitLevel))
-				}
-			}
-		}
+	ssr2 := g.StandardErrorLog * g.StandardErrorLog * float64(g.N-g.Params)
+	d1, d2 := float64(g.Params-f.Params), float64(g.N-g.Params)
+	if !(ssr2 > 0 && ssr2 < ssr) {
+		return
 	}
-	return f, nil
+	fs := ((ssr - ssr2) / d1) / (ssr2 / d2)
+	f.MoreSegmentsF = fs
+	f.MoreSegmentsP = distuv.F{D1: d1, D2: d2}.Survival(fs)
+	if f.MoreSegmentsP < PoorFitLevel {
+		f.PoorFit = true
+		f.Warnings = append(f.Warnings, fmt.Sprintf(
+			"%d segment(s) fit these gaugings poorly: %d segments cut the standard error from %.1f %% to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more segments",
+			k, k+1, f.StandardErrorPercent, g.StandardErrorPercent, fs, f.MoreSegmentsP, PoorFitLevel))
+	}
 }
 
 // nParams is the number of fitted parameters.
@@ -592,8 +682,34 @@ func (f *Fit) segmentsOf(th []float64, k int) []PowerSegment {
 	return segs
 }
 
-// finish fills the segments, standard errors and residuals.
+// finish fills the segments, standard errors and residuals from the
+// fitted parameters f.theta and their residual sum of squares ssr.
 func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
+	k := p.segments
+	f.setParameters(p)
+	df := f.N - f.Params
+	s2 := ssr / float64(df)
+	f.StandardErrorLog = math.Sqrt(s2)
+	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
+	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
+	f.setCovariance(p, s2)
+	f.BreaksSE = make([]float64, len(f.Breaks))
+	for i := range f.BreaksSE {
+		f.BreaksSE[i] = math.NaN()
+	}
+	if f.cov == nil && s2 > 0 {
+		f.Warnings = append(f.Warnings, "the parameters are not all determined by the gaugings: standard errors and the confidence band are not available")
+	}
+	if f.cov != nil {
+		f.setStandardErrors(k)
+	}
+	f.warnShape()
+	f.setResiduals(gs)
+}
+
+// setParameters sets e, the breakpoints and the segments from f.theta
+// (the held values of p's options where they are not fitted).
+func (f *Fit) setParameters(p *fitProblem) {
 	k := p.segments
 	if f.ZeroFlowFixed {
 		f.ZeroFlow = p.opt.ZeroFlow
@@ -605,13 +721,13 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 	f.ZeroFlow = e
 	f.Breaks = append([]float64(nil), breaks...)
 	f.Segments = f.segmentsOf(f.theta, k)
-	df := f.N - f.Params
-	s2 := ssr / float64(df)
-	f.StandardErrorLog = math.Sqrt(s2)
-	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
-	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
+}
 
-	// Covariance s²·(JᵀWJ)⁻¹ with J the Jacobian of ln Q in theta.
+// setCovariance sets f.cov to s²·(JᵀWJ)⁻¹, with J the Jacobian of ln Q in
+// theta at p's stages and W their weights; it stays nil when JᵀWJ is
+// singular or s² is not positive.
+func (f *Fit) setCovariance(p *fitProblem, s2 float64) {
+	k := p.segments
 	np := len(f.theta)
 	jtj := mat.NewSymDense(np, nil)
 	grads := make([][]float64, len(p.h))
@@ -628,10 +744,6 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 		}
 	}
 	var ch mat.Cholesky
-	f.BreaksSE = make([]float64, len(f.Breaks))
-	for i := range f.BreaksSE {
-		f.BreaksSE[i] = math.NaN()
-	}
 	if ch.Factorize(jtj) && s2 > 0 {
 		var inv mat.SymDense
 		if err := ch.InverseTo(&inv); err == nil {
@@ -639,39 +751,53 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 			f.cov = &inv
 		}
 	}
-	if f.cov == nil && s2 > 0 {
-		f.Warnings = append(f.Warnings, "the parameters are not all determined by the gaugings: standard errors and the confidence band are not available")
+}
+
+// setStandardErrors sets the standard errors of a fitted e and fitted
+// breakpoints from the covariance, and those of every segment's C and b
+// by the delta method. f.cov must be set.
+func (f *Fit) setStandardErrors(k int) {
+	i := 0
+	if !f.ZeroFlowFixed {
+		f.ZeroFlowSE = math.Sqrt(f.cov.At(0, 0))
+		i = 1
 	}
-	if f.cov != nil {
-		i := 0
-		if !f.ZeroFlowFixed {
-			f.ZeroFlowSE = math.Sqrt(f.cov.At(0, 0))
-			i = 1
-		}
-		if !f.BreaksFixed {
-			for j := range f.Breaks {
-				q := i + k + 1 + j
-				f.BreaksSE[j] = math.Sqrt(f.cov.At(q, q))
-			}
-		}
-		// Delta method for the derived C and b of every segment.
-		for j := range f.Segments {
-			gc := make([]float64, np)
-			gb := make([]float64, np)
-			for a := 0; a < np; a++ {
-				d := f.step(a, k)
-				th := append([]float64(nil), f.theta...)
-				th[a] += d
-				up := f.segmentsOf(th, k)[j]
-				th[a] -= 2 * d
-				dn := f.segmentsOf(th, k)[j]
-				gc[a] = (up.Coefficient - dn.Coefficient) / (2 * d)
-				gb[a] = (up.Exponent - dn.Exponent) / (2 * d)
-			}
-			f.Segments[j].CoefficientSE = math.Sqrt(f.quad(gc))
-			f.Segments[j].ExponentSE = math.Sqrt(f.quad(gb))
+	if !f.BreaksFixed {
+		for j := range f.Breaks {
+			q := i + k + 1 + j
+			f.BreaksSE[j] = math.Sqrt(f.cov.At(q, q))
 		}
 	}
+	for j := range f.Segments {
+		gc, gb := f.segmentGradients(j, k)
+		f.Segments[j].CoefficientSE = math.Sqrt(f.quad(gc))
+		f.Segments[j].ExponentSE = math.Sqrt(f.quad(gb))
+	}
+}
+
+// segmentGradients returns the gradients in theta of segment j's C and b
+// (derived from theta), by central differences.
+func (f *Fit) segmentGradients(j, k int) (gc, gb []float64) {
+	np := len(f.theta)
+	gc = make([]float64, np)
+	gb = make([]float64, np)
+	for a := 0; a < np; a++ {
+		d := f.step(a, k)
+		th := append([]float64(nil), f.theta...)
+		th[a] += d
+		up := f.segmentsOf(th, k)[j]
+		th[a] -= 2 * d
+		dn := f.segmentsOf(th, k)[j]
+		gc[a] = (up.Coefficient - dn.Coefficient) / (2 * d)
+		gb[a] = (up.Exponent - dn.Exponent) / (2 * d)
+	}
+	return gc, gb
+}
+
+// warnShape warns of a fitted e the gaugings barely determine (standard
+// error above PoorZeroFlowSE of the gauged range) and of a segment whose
+// discharge does not rise with stage.
+func (f *Fit) warnShape() {
 	if span := f.HighStage - f.LowStage; !f.ZeroFlowFixed && f.ZeroFlowSE > PoorZeroFlowSE*span {
 		f.Warnings = append(f.Warnings, fmt.Sprintf(
 			"the gaugings barely determine the gauge height of zero flow (e = %.3g ± %.2g, more than %.0f %% of the gauged range): fix it from the control or fit fewer segments",
@@ -682,7 +808,12 @@ func (f *Fit) finish(p *fitProblem, ssr float64, gs []Gauging) {
 			f.Warnings = append(f.Warnings, fmt.Sprintf("segment %d has exponent %.3g ≤ 0: discharge does not rise with stage there", j+1, b.Exponent))
 		}
 	}
-	// Residuals in input order.
+}
+
+// setResiduals sets every gauging's departure from the fit, in input
+// order, with its weight normalised as in the fit (those with zero
+// discharge marked excluded).
+func (f *Fit) setResiduals(gs []Gauging) {
 	f.Residuals = make([]Residual, len(gs))
 	wi := 0
 	var wsum float64

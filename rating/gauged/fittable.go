@@ -96,9 +96,11 @@ var ErrBeyondSection = errors.New("refusing to extrapolate")
 // dropped next to a stage the table must hold (a gauging, the top).
 const stageMerge = 0.05
 
-// LookupTable lays out the fitted rating as a table. Between the lowest
-// and highest gauging it is the fit; below, the fit down to e (extrapolated
-// rows); above, with a hydraulic rating, that rating times
+// LookupTable lays out the fitted rating as a table of discharge against
+// gauge height (the units of f.Units). Between the lowest and highest
+// gauging it is the fit, with its FitBandLevel band; below, the fit down
+// to e (extrapolated rows); above, with a hydraulic rating, that rating
+// times
 //
 //	F = Q_fit(h_top) / Q_hydraulic(h_top)
 //
@@ -107,36 +109,32 @@ const stageMerge = 0.05
 // rating by a hydraulic computation described by Kennedy, 1984, USGS
 // TWRI 3-A10, among the methods of extrapolating ratings, from memory); it
 // stops at the section's lower end and never goes past it.
-// Without a section the table ends at the highest gauging.
+// Without a section the table ends at the highest gauging. The rows are
+// e, the lowest and highest gauging, the top, and round stages of
+// opt.Step (default a round step giving about rating.MaxDefaultRows rows)
+// between them, ascending; a scaled hydraulic rating that falls with
+// stage is warned of.
+//
+// Errors: ErrBeyondSection for opt.To above the top (the section's lower
+// end, or the highest gauging without a section) or for a section dry at
+// the highest gauging; rating.ErrStages for opt.To not above e or a step
+// giving more than rating.MaxStages rows; the errors of the hydraulic
+// rating.
+//
+// References:
+//
+//	ISO 18320:2020. Hydrometry — Measurement of liquid flow in open
+//	channels — Determination of the stage–discharge relationship.
+//	International Organization for Standardization, Geneva.
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. U.S.
+//	Geological Survey Techniques of Water-Resources Investigations,
+//	Book 3, Chapter A10.
 func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 	t := FitTable{ScaleFactor: math.NaN(), ScaleStage: f.HighStage}
-	lo, top := f.ZeroFlow, f.HighStage
-	u := f.Units
-	c := opt.Hydraulic
-	if c != nil {
-		ct := c.Top()
-		switch {
-		case ct < f.HighStage:
-			t.Warnings = append(t.Warnings, fmt.Sprintf(
-				"the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge): no extrapolation above it",
-				f.HighStage, u.Length(), ct, u.Length()))
-		default:
-			top = ct
-			qh, err := c.Discharge(f.HighStage)
-			if err != nil {
-				return t, err
-			}
-			if !(qh > 0) {
-				return t, fmt.Errorf("%w: the section is dry at the highest gauging (%g %s): check --datum", ErrBeyondSection, f.HighStage, u.Length())
-			}
-			t.ScaleFactor = f.Discharge(f.HighStage) / qh
-			t.ScaleNote = fmt.Sprintf(
-				"above the highest gauging (%g %s) the table follows the hydraulic rating times %.4f, the fitted discharge %.4g over the hydraulic discharge %.4g %s at that gauge height",
-				f.HighStage, u.Length(), t.ScaleFactor, f.Discharge(f.HighStage), qh, u.Discharge())
-		}
-	}
-	if c == nil {
-		t.ScaleNote = fmt.Sprintf("no section given: the table ends at the highest gauging (%g %s), with no extrapolation above it", f.HighStage, u.Length())
+	lo, u, c := f.ZeroFlow, f.Units, opt.Hydraulic
+	top, err := t.scaleAbove(f, c)
+	if err != nil {
+		return t, err
 	}
 	if opt.To != 0 {
 		if opt.To > top {
@@ -158,6 +156,57 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 	if (top-lo)/step > rating.MaxStages {
 		return t, fmt.Errorf("%w: step %g is too small for %g to %g", rating.ErrStages, step, lo, top)
 	}
+	for _, h := range fitTableStages(f, lo, top, step) {
+		r, err := t.rule(f, c, h)
+		if err != nil {
+			return t, err
+		}
+		t.Rows = append(t.Rows, r)
+	}
+	if c != nil && t.ScaleFactor > 0 {
+		t.warnFalling(u)
+	}
+	return t, nil
+}
+
+// scaleAbove sets the factor on the hydraulic rating c above the highest
+// gauging and the note saying so (or that the table ends at the highest
+// gauging), and returns the table's highest possible stage: c's top, or
+// the highest gauging without a section or when c's top lies below it.
+// The error is c's, or ErrBeyondSection when c is dry at the highest
+// gauging.
+func (t *FitTable) scaleAbove(f *Fit, c *rating.HydraulicCurve) (float64, error) {
+	u := f.Units
+	if c == nil {
+		t.ScaleNote = fmt.Sprintf("no section given: the table ends at the highest gauging (%g %s), with no extrapolation above it", f.HighStage, u.Length())
+		return f.HighStage, nil
+	}
+	ct := c.Top()
+	if ct < f.HighStage {
+		t.Warnings = append(t.Warnings, fmt.Sprintf(
+			"the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge): no extrapolation above it",
+			f.HighStage, u.Length(), ct, u.Length()))
+		return f.HighStage, nil
+	}
+	qh, err := c.Discharge(f.HighStage)
+	if err != nil {
+		return ct, err
+	}
+	if !(qh > 0) {
+		return ct, fmt.Errorf("%w: the section is dry at the highest gauging (%g %s): check --datum", ErrBeyondSection, f.HighStage, u.Length())
+	}
+	t.ScaleFactor = f.Discharge(f.HighStage) / qh
+	t.ScaleNote = fmt.Sprintf(
+		"above the highest gauging (%g %s) the table follows the hydraulic rating times %.4f, the fitted discharge %.4g over the hydraulic discharge %.4g %s at that gauge height",
+		f.HighStage, u.Length(), t.ScaleFactor, f.Discharge(f.HighStage), qh, u.Discharge())
+	return ct, nil
+}
+
+// fitTableStages returns the stages of the table from lo to top, ascending:
+// the stages it must hold (lo, top, and the lowest and highest gauging
+// when not above top) and the multiples of step between lo and top, less
+// those within stageMerge of a step of a stage it must hold.
+func fitTableStages(f *Fit, lo, top, step float64) []float64 {
 	must := []float64{lo, top}
 	if f.LowStage <= top {
 		must = append(must, f.LowStage)
@@ -184,24 +233,20 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 	}
 	stages = rating.SortedStages(stages)
 	sort.Float64s(stages)
-	for _, h := range stages {
-		r, err := t.rule(f, c, h)
-		if err != nil {
-			return t, err
+	return stages
+}
+
+// warnFalling warns of the first row of the scaled hydraulic rating
+// whose discharge falls below the row before.
+func (t *FitTable) warnFalling(u rating.Units) {
+	prev := 0.0
+	for _, r := range t.Rows {
+		if r.Basis == HydraulicAbove && r.Discharge < prev {
+			t.Warnings = append(t.Warnings, fmt.Sprintf("the scaled hydraulic rating falls at %g %s: check the section above the gaugings", r.Stage, u.Length()))
+			break
 		}
-		t.Rows = append(t.Rows, r)
+		prev = r.Discharge
 	}
-	if c != nil && t.ScaleFactor > 0 {
-		prev := 0.0
-		for _, r := range t.Rows {
-			if r.Basis == HydraulicAbove && r.Discharge < prev {
-				t.Warnings = append(t.Warnings, fmt.Sprintf("the scaled hydraulic rating falls at %g %s: check the section above the gaugings", r.Stage, u.Length()))
-				break
-			}
-			prev = r.Discharge
-		}
-	}
-	return t, nil
 }
 
 // rule returns the table's row at gauge height h: the fitted curve (with

@@ -180,12 +180,34 @@ func (g Gauging) UncertaintyPercent() float64 {
 var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating table")
 
 // Analyze compares, calibrates and fits gaugings as opt says: the
-// comparison with the hydraulic rating (a section's or a table's), the n
-// back-calculation (a section), the fit of a rating of controls by least
-// squares (FitControls) or Bayesian inference (FitBayes), the F test of
-// one more control, the table with both 95 % bands on every row
-// (ControlFit.Table) and, when asked, the lookup at every hundredth.
-// Errors: ErrNoHydraulic, and those of the parts.
+// comparison with the hydraulic rating (a section's or a table's;
+// Compare, CompareTable), the n back-calculation (a section; Calibrate),
+// the fit of a rating of controls by least squares (FitControls) or
+// Bayesian inference (FitBayes), the F test of one more control
+// (MoreControlsTest), the table with both 95 % bands on every row
+// (ControlFit.Table) and, when asked, the lookup at every hundredth of
+// stage. Stages are gauge heights in the length unit of opt.Units (a
+// section's Datum relates its elevations to them) and discharges are in
+// its discharge unit. The report gathers the warnings of every part; a
+// calibration that finds no gauging to use, and a lookup out of range,
+// are warnings, not errors.
+//
+// Preconditions: CompareOnly and ZeroFlowControl need opt.Hydraulic or
+// opt.HydraulicTable.
+//
+// Errors: ErrNoHydraulic when they have neither, and the errors of the
+// parts (the comparison, the calibration, the fit, the table and the
+// lookup).
+//
+// References:
+//
+//	ISO 18320:2020. Hydrometry — Measurement of liquid flow in open
+//	channels — Determination of the stage–discharge relationship.
+//	International Organization for Standardization, Geneva.
+//	Le Coz, J., Renard, B., Bonnifait, L., Branger, F., Le Boursicaud, R.
+//	(2014). Combining hydraulic knowledge and uncertain gaugings in the
+//	estimation of hydrometric rating curves: a Bayesian approach.
+//	Journal of Hydrology 509, 573–587.
 func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	ref := referenceOf(opt.Hydraulic, opt.HydraulicTable)
 	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),

@@ -138,14 +138,23 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 // MonteCarlo estimates the uncertainty of the slope-area discharge of a
 // reach: each draw takes every subsection's n from a log-normal
 // distribution with median the surveyed n and coefficient of variation
-// NCV (σ = √ln(1+CV²)), and every section's water surface from a normal
-// distribution about the value from its marks with standard deviation
-// MarkSD/√m for the mean of m marks (marks independent), then solves the
-// whole reach. Draws are independent between sections and subsections.
-// It also returns the sensitivities dQ/dn and dQ/dh.
+// NCV,
 //
-// The reach must solve (SolveSlopeArea returns no error); otherwise that
-// error is returned.
+//	ln n ~ N(ln n_surveyed, σ²),   σ = √ln(1 + CV²),
+//
+// and every section's water surface from a normal distribution about the
+// value from its marks with standard deviation MarkSD/√m for the mean of
+// m marks (marks independent), then solves the whole reach. Draws are
+// independent between sections and subsections. The result holds the
+// 5th, 50th and 95th percentiles, mean and standard deviation of the
+// discharge (discharge unit of opt.Units) over the draws that solve, and
+// the sensitivities dQ/dn and dQ/dh by central differences. Draw d comes
+// from the random source of its chunk (see ChunkDraws), so the result
+// depends on mc.Seed alone, not on mc.Workers.
+//
+// Preconditions: at least two sections, and the reach must solve
+// (SolveSlopeArea returns no error). Errors: ErrTooFewSections, the
+// reach's own error, or an error for more than MaxDraws draws.
 func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Uncertainty, error) {
 	var res SlopeArea
 	if len(secs) < 2 {
@@ -158,6 +167,30 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 	if _, err := saReachQ(secs, ws, sts, opt.Units); err != nil {
 		return Uncertainty{}, err
 	}
+	u, err := mc.settings(opt.Units)
+	if err != nil {
+		return Uncertainty{}, err
+	}
+	m := &saModel{secs: secs, ws: ws, wsSD: make([]float64, len(secs)), nsubs: make([]int, len(secs)), opt: opt}
+	for i, s := range secs {
+		sd := u.MarkSD
+		if s.MarkSD > 0 && mc.MarkSD >= 0 {
+			sd = s.MarkSD
+		}
+		m.wsSD[i] = sd / math.Sqrt(float64(used[i]))
+		m.nsubs[i] = len(sts[i].w.Subs)
+	}
+	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
+	u.DQDN, u.DQDH = m.sensitivities(sts)
+	u.DQDNPerMilli = u.DQDN * MilliN
+	u.summarise(m.draws(u.Draws, math.Sqrt(math.Log1p(u.NCV*u.NCV)), mc.Seed, mc.Workers))
+	return u, nil
+}
+
+// settings returns the uncertainty with the settings of mc in force
+// (defaults for zero values, no spread for negative ones), and an error
+// for more than MaxDraws draws.
+func (mc MonteCarloOptions) settings(units rating.Units) (Uncertainty, error) {
 	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
 	if u.Draws <= 0 {
 		u.Draws = DefaultDraws
@@ -172,30 +205,23 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 		u.NCV = 0
 	}
 	switch {
-	case u.MarkSD == 0 && opt.Units == rating.US:
+	case u.MarkSD == 0 && units == rating.US:
 		u.MarkSD = DefaultMarkSDUS
 	case u.MarkSD == 0:
 		u.MarkSD = DefaultMarkSDSI
 	case u.MarkSD < 0:
 		u.MarkSD = 0
 	}
-	m := &saModel{secs: secs, ws: ws, wsSD: make([]float64, len(secs)), nsubs: make([]int, len(secs)), opt: opt}
-	for i, s := range secs {
-		sd := u.MarkSD
-		if s.MarkSD > 0 && mc.MarkSD >= 0 {
-			sd = s.MarkSD
-		}
-		m.wsSD[i] = sd / math.Sqrt(float64(used[i]))
-		m.nsubs[i] = len(sts[i].w.Subs)
-	}
-	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
-	u.DQDN, u.DQDH = m.sensitivities(sts)
-	u.DQDNPerMilli = u.DQDN * MilliN
+	return u, nil
+}
 
-	sigma := math.Sqrt(math.Log1p(u.NCV * u.NCV))
-	q := make([]float64, u.Draws)
-	chunks := (u.Draws + ChunkDraws - 1) / ChunkDraws
-	workers := mc.Workers
+// draws returns the discharge of each of n draws (NaN where the reach
+// does not solve), sigma being the standard deviation of ln n. Chunks of
+// ChunkDraws draws are shared among workers goroutines (default
+// GOMAXPROCS); chunk c draws from rand.NewPCG(seed, c).
+func (m *saModel) draws(n int, sigma float64, seed uint64, workers int) []float64 {
+	q := make([]float64, n)
+	chunks := (n + ChunkDraws - 1) / ChunkDraws
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -212,24 +238,38 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 			defer wg.Done()
 			s := m.newSAScratch()
 			for c := range next {
-				rng := rand.New(rand.NewPCG(mc.Seed, uint64(c)))
-				for d := c * ChunkDraws; d < min((c+1)*ChunkDraws, u.Draws); d++ {
-					for i := range m.secs {
-						s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
-						for j := range s.nmul[i] {
-							s.nmul[i][j] = math.Exp(sigma * rng.NormFloat64())
-						}
-					}
-					v, err := m.eval(s)
-					if err != nil {
-						v = math.NaN()
-					}
-					q[d] = v
+				rng := rand.New(rand.NewPCG(seed, uint64(c)))
+				for d := c * ChunkDraws; d < min((c+1)*ChunkDraws, n); d++ {
+					q[d] = m.drawOne(s, rng, sigma)
 				}
 			}
 		}()
 	}
 	wg.Wait()
+	return q
+}
+
+// drawOne draws every section's water surface and every subsection's n
+// factor into s from rng and returns the reach's discharge (NaN when it
+// does not solve).
+func (m *saModel) drawOne(s *saScratch, rng *rand.Rand, sigma float64) float64 {
+	for i := range m.secs {
+		s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
+		for j := range s.nmul[i] {
+			s.nmul[i][j] = math.Exp(sigma * rng.NormFloat64())
+		}
+	}
+	v, err := m.eval(s)
+	if err != nil {
+		v = math.NaN()
+	}
+	return v
+}
+
+// summarise sets the failed count, the sorted samples and their
+// percentiles, mean and standard deviation (NaN when no draw solved)
+// from the draws' discharges q, which it reuses.
+func (u *Uncertainty) summarise(q []float64) {
 	ok := q[:0]
 	for _, v := range q {
 		if math.IsNaN(v) {
@@ -247,7 +287,6 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 		u.P95 = stat.Quantile(0.95, stat.LinInterp, ok, nil)
 		u.Mean, u.SD = stat.MeanStdDev(ok, nil)
 	}
-	return u, nil
 }
 
 // sensitivities returns dQ/dn (every n changed by the same amount) and

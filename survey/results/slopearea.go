@@ -5,7 +5,6 @@ import (
 	"io"
 	"math"
 	"strings"
-	"text/tabwriter"
 	"wetline/rating"
 	"wetline/rating/reach"
 )
@@ -158,22 +157,31 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 // estimate and its band first, then the inputs, each section, the n,
 // area and conveyance of every subsection of every section, each subreach,
 // the checks with their sources, the uncertainty settings and
-// sensitivities, the warnings and the caution.
+// sensitivities, the warnings and the caution. Lengths and discharges are
+// in the report's units (rep.Result.Units), named in the heading and in
+// the column headers. The only error is w's.
 func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
+	var t textReport
+	saTextHeading(&t, rep)
+	saTextInputs(&t, rep)
+	saTextSections(&t, rep.Result)
+	saTextSubsections(&t, rep.Result)
+	saTextSubreaches(&t, rep.Result)
+	saTextChecks(&t, rep.Result)
+	if un := rep.Uncertainty; un != nil {
+		saTextUncertainty(&t, rep.Result, un)
+	}
+	saTextFoot(&t, rep.Warnings)
+	_, err := io.WriteString(w, t.String())
+	return err
+}
+
+// saTextHeading writes the title, the program and units, the site, and
+// the peak discharge with its band and how it was found.
+func saTextHeading(t *textReport, rep reach.Report) {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	var b strings.Builder
-	line := func(format string, a ...any) { fmt.Fprintf(&b, format+"\n", a...) }
-	table := func(header string, rows [][]string) {
-		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  "+header)
-		for _, row := range rows {
-			fmt.Fprintln(tw, "  "+strings.Join(row, "\t"))
-		}
-		tw.Flush()
-	}
-
 	title := "Slope-area flood peak"
 	if r.Method == reach.MethodSlopeConveyance {
 		title = "Single-section slope-conveyance flood peak (weaker method)"
@@ -181,30 +189,35 @@ func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 	if rep.Name != "" {
 		title += ": " + rep.Name
 	}
-	line("%s", title)
+	t.line("%s", title)
 	if rep.Provenance.Program != "" {
-		line("%s, %s units (lengths %s, discharge %s)", rep.Provenance.Program, strings.ToUpper(u.String()), L, Q)
+		t.line("%s, %s units (lengths %s, discharge %s)", rep.Provenance.Program, strings.ToUpper(u.String()), L, Q)
 	} else {
-		line("%s units (lengths %s, discharge %s)", strings.ToUpper(u.String()), L, Q)
+		t.line("%s units (lengths %s, discharge %s)", strings.ToUpper(u.String()), L, Q)
 	}
-	b.WriteString(siteLine(rep.Provenance))
-	line("")
-	line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
+	t.b.WriteString(siteLine(rep.Provenance))
+	t.line("")
+	t.line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
 	if un := rep.Uncertainty; un != nil {
-		line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
+		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
 			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
-		line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
-		line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
-		line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
+		t.line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
+		t.line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
-		line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
+		t.line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
+}
 
-	line("")
-	line("Inputs (reach table)")
+// saTextInputs writes the reach table as read: each section's distance,
+// marks, water surface, quality, survey and note.
+func saTextInputs(t *textReport, rep reach.Report) {
+	r := rep.Result
+	t.line("")
+	t.line("Inputs (reach table)")
 	rows := [][]string{}
 	for i, s := range r.Sections {
 		row := []string{s.ID, fixed(s.Distance, 1), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
@@ -214,97 +227,120 @@ func WriteSlopeAreaText(w io.Writer, rep reach.Report) error {
 		}
 		rows = append(rows, row)
 	}
-	table(fmt.Sprintf("section\tdistance %s\tws_left\tws_right\twater surface\tquality\tsurvey\tnote", L), rows)
+	t.table(fmt.Sprintf("section\tdistance %s\tws_left\tws_right\twater surface\tquality\tsurvey\tnote", r.Units.Length()), rows)
+}
 
-	line("")
-	line("Sections at the peak discharge")
-	rows = rows[:0]
+// saTextSections writes every section's hydraulics at the peak discharge.
+func saTextSections(t *textReport, r reach.SlopeArea) {
+	u := r.Units
+	t.line("")
+	t.line("Sections at the peak discharge")
+	var rows [][]string
 	for _, s := range r.Sections {
 		rows = append(rows, []string{s.ID, fixed(s.Bottom, 3), fixed(s.WaterSurface-s.Bottom, 2), fixed(s.Area, 2), fixed(s.TopWidth, 2),
 			fixed(s.Conveyance, 0), fixed(s.Alpha, 3), fixed(s.Velocity, 2), fixed(s.VelocityHead, 3), fixed(s.EnergyGrade, 3), fixed(s.Froude, 2)})
 	}
-	table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
+	t.table(fmt.Sprintf("section\tthalweg\tmax depth\tarea %s\ttop width\tconveyance %s\talpha\tvelocity %s\tvel. head\tenergy grade\tfroude",
 		u.Area(), u.Conveyance(), u.Velocity()), rows)
+}
 
-	line("")
-	line("Subsections at the peak discharge (Manning's n as surveyed)")
-	rows = rows[:0]
+// saTextSubsections writes the n, area, conveyance, discharge and
+// velocity of every subsection of every section at the peak discharge.
+func saTextSubsections(t *textReport, r reach.SlopeArea) {
+	u := r.Units
+	t.line("")
+	t.line("Subsections at the peak discharge (Manning's n as surveyed)")
+	var rows [][]string
 	for _, s := range r.Sections {
 		for k, sub := range s.Subs {
 			rows = append(rows, []string{s.ID, fmt.Sprint(k + 1), sub.Region.String(), fixed(sub.From, 1) + " to " + fixed(sub.To, 1),
 				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), sig(sub.Discharge, 4), fixed(sub.Velocity, 2)})
 		}
 	}
-	table(fmt.Sprintf("section	subsection	region	stations %s	n	area %s	conveyance %s	discharge %s	velocity %s",
-		L, u.Area(), u.Conveyance(), Q, u.Velocity()), rows)
+	t.table(fmt.Sprintf("section\tsubsection\tregion\tstations %s\tn\tarea %s\tconveyance %s\tdischarge %s\tvelocity %s",
+		u.Length(), u.Area(), u.Conveyance(), u.Discharge(), u.Velocity()), rows)
+}
 
-	if len(r.Subreaches) > 0 {
-		line("")
-		line("Subreaches (losses at the peak discharge)")
-		rows = rows[:0]
-		for _, s := range r.Subreaches {
-			kind := "contracting"
-			if s.Expanding {
-				kind = "expanding"
-			}
-			rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, 1), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
-				fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
-		}
-		table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", Q), rows)
+// saTextSubreaches writes each subreach's length, fall, discharge alone
+// and losses at the peak discharge; nothing for a single section.
+func saTextSubreaches(t *textReport, r reach.SlopeArea) {
+	if len(r.Subreaches) == 0 {
+		return
 	}
+	t.line("")
+	t.line("Subreaches (losses at the peak discharge)")
+	var rows [][]string
+	for _, s := range r.Subreaches {
+		kind := "contracting"
+		if s.Expanding {
+			kind = "expanding"
+		}
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, 1), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
+	}
+	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)
+}
 
-	line("")
+// saTextChecks writes the quality checks with how many pass, each with
+// its value against its limit and its source.
+func saTextChecks(t *textReport, r reach.SlopeArea) {
+	t.line("")
 	pass := 0
 	for _, c := range r.Checks {
 		if c.Pass {
 			pass++
 		}
 	}
-	line("Quality checks (%d of %d pass)", pass, len(r.Checks))
-	rows = rows[:0]
+	t.line("Quality checks (%d of %d pass)", pass, len(r.Checks))
+	var rows [][]string
 	for _, c := range r.Checks {
 		rows = append(rows, []string{c.Status(), c.Name, sig(c.Value, 4) + " " + c.Relation + " " + sig(c.Limit, 4), c.Source})
 	}
-	table("status\tcheck\tvalue vs limit\tsource", rows)
+	t.table("status\tcheck\tvalue vs limit\tsource", rows)
+}
 
-	if un := rep.Uncertainty; un != nil {
-		line("")
-		line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
-		line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
-		line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
-		sds := make([]string, 0, len(un.WaterSurfaceSD))
-		for i, v := range un.WaterSurfaceSD {
-			if i < len(r.Sections) {
-				sds = append(sds, r.Sections[i].ID+" "+fixed(v, 3))
-			}
-		}
-		line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
-		line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
-		line("  draws          %d, %d without a solution", un.Draws, un.Failed)
-		line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDNPerMilli, 4), Q)
-		parts := make([]string, len(un.DQDH))
-		for i, v := range un.DQDH {
-			id := ""
-			if i < len(r.Sections) {
-				id = r.Sections[i].ID
-			}
-			parts[i] = fmt.Sprintf("%s %s", id, saSigned(v*0.01))
-		}
-		line("  dQ/dh          %s %s per 0.01 %s rise of one water surface", strings.Join(parts, ", "), Q, L)
-	}
-
-	if len(rep.Warnings) > 0 {
-		line("")
-		line("Warnings")
-		for _, s := range rep.Warnings {
-			line("  - %s", s)
+// saTextUncertainty writes the Monte Carlo settings, the discharge's
+// percentiles and the sensitivities dQ/dn and dQ/dh.
+func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) {
+	L, Q := r.Units.Length(), r.Units.Discharge()
+	t.line("")
+	t.line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
+	t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+	t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+	sds := make([]string, 0, len(un.WaterSurfaceSD))
+	for i, v := range un.WaterSurfaceSD {
+		if i < len(r.Sections) {
+			sds = append(sds, r.Sections[i].ID+" "+fixed(v, 3))
 		}
 	}
-	line("")
-	line("%s", rating.IndirectNote)
-	line("Caution: %s", rating.Caution)
-	_, err := io.WriteString(w, b.String())
-	return err
+	t.line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
+	t.line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
+	t.line("  draws          %d, %d without a solution", un.Draws, un.Failed)
+	t.line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDNPerMilli, 4), Q)
+	parts := make([]string, len(un.DQDH))
+	for i, v := range un.DQDH {
+		id := ""
+		if i < len(r.Sections) {
+			id = r.Sections[i].ID
+		}
+		parts[i] = fmt.Sprintf("%s %s", id, saSigned(v*0.01))
+	}
+	t.line("  dQ/dh          %s %s per 0.01 %s rise of one water surface", strings.Join(parts, ", "), Q, L)
+}
+
+// saTextFoot writes the warnings, the note on indirect estimates and the
+// caution.
+func saTextFoot(t *textReport, warnings []string) {
+	if len(warnings) > 0 {
+		t.line("")
+		t.line("Warnings")
+		for _, s := range warnings {
+			t.line("  - %s", s)
+		}
+	}
+	t.line("")
+	t.line("%s", rating.IndirectNote)
+	t.line("Caution: %s", rating.Caution)
 }
 
 func saSideWords(s reach.Side) string {
