@@ -6,7 +6,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"text/tabwriter"
 
 	"wetline/rating"
 	"wetline/rating/reach"
@@ -222,23 +221,15 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	var b strings.Builder
-	line := func(format string, a ...any) { fmt.Fprintf(&b, format+"\n", a...) }
-	table := func(header string, rows [][]string) {
-		tw := tabwriter.NewWriter(&b, 0, 0, 2, ' ', 0)
-		fmt.Fprintln(tw, "  "+header)
-		for _, row := range rows {
-			fmt.Fprintln(tw, "  "+strings.Join(row, "\t"))
-		}
-		tw.Flush()
-	}
+	var t textReport
+	line, table := t.line, t.table
 	title := "Step-backwater profiles and rating"
 	if rep.Name != "" {
 		title += ": " + rep.Name
 	}
 	line("%s", title)
 	line("%s, %s units (lengths %s, discharge %s)", programName(rep.Provenance), strings.ToUpper(u.String()), L, Q)
-	b.WriteString(siteLine(rep.Provenance))
+	t.b.WriteString(siteLine(rep.Provenance))
 	line("")
 	bwTextMethod(line, rep)
 
@@ -259,7 +250,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 
 	line("")
 	line("Hydraulics at %s at each rating stage (each row at its own friction slope (Q/K)²)", r.Rating.Section)
-	bwTextHydraulics(&b, rep.Table)
+	bwTextHydraulics(&t.b, rep.Table)
 
 	if v := rep.Verification; v != nil {
 		line("")
@@ -275,7 +266,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 	line("")
 	line("%s", BackwaterNote)
 	line("Caution: %s", rating.Caution)
-	_, err := io.WriteString(w, b.String())
+	_, err := io.WriteString(w, t.String())
 	return err
 }
 
