@@ -63,14 +63,14 @@ func bankfullReport(t *testing.T, left float64, gauge bool, datum float64) (rati
 
 func TestBankfullOf(t *testing.T) {
 	for _, tc := range []struct {
-		name        string
-		left        float64 // left bank station; bank top at 102.5 − 0.45·(left − 46)
-		gauge       bool
-		datum       float64
-		noLookup    bool
-		stage       float64 // want, in the table's stages
-		from, to    float64 // the rated stages it is read from
-		tol         float64
+		name     string
+		left     float64 // left bank station; bank top at 102.5 − 0.45·(left − 46)
+		gauge    bool
+		datum    float64
+		noLookup bool
+		stage    float64 // want, in the table's stages
+		from, to float64 // the rated stages it is read from
+		tol      float64
 	}{
 		// 102.275 m: between hundredths of the lookup table, read from
 		// the two below.
