@@ -55,7 +55,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)
-	in := plotting.RatingFigures{Site: *site, Base: t.Name, Table: t, ZeroFlow: *zeroFlow, Size: size,
+	in := plotting.RatingFigures{Site: *site, Base: figureBase(t.Name), Table: t, ZeroFlow: *zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if *section != "" {
 		p, err := sf.prepareIn(*section, t.Units)
