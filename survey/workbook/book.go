@@ -28,6 +28,9 @@ type Column struct {
 	// Width is the column width in characters; 0 fits the header (at least
 	// MinColumnWidth).
 	Width float64
+	// Wrap wraps the column's cells within its width, the row growing to
+	// show them, so that a column of notes stays narrow on the page.
+	Wrap bool
 }
 
 // Header returns the header cell text: the name and the unit in brackets.
@@ -167,11 +170,15 @@ func (b *Book) NewSheet(name string) error {
 	return err
 }
 
+// cellAlignment is the alignment of table cells: at the top, so that the
+// cells of a row line up with the first line of a wrapped note.
+func cellAlignment() *excelize.Alignment { return &excelize.Alignment{Vertical: "top"} }
+
 // Style returns the id of a cell style with a number format code ("" for
 // General), cached per code.
 func (b *Book) Style(format string) (int, error) {
 	return b.style("num:"+format, func() *excelize.Style {
-		st := &excelize.Style{}
+		st := &excelize.Style{Alignment: cellAlignment()}
 		if format != "" {
 			f := format
 			st.CustomNumFmt = &f
@@ -208,7 +215,7 @@ func (b *Book) LabelStyle() (int, error) {
 // table.
 func (b *Book) BandStyle(format string) (int, error) {
 	return b.style("band:"+format, func() *excelize.Style {
-		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}}
+		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}, Alignment: cellAlignment()}
 		if format != "" {
 			f := format
 			st.CustomNumFmt = &f
@@ -227,7 +234,7 @@ const MarkFill = "F8DDBA"
 // discharges.
 func (b *Book) MarkStyle(format string) (int, error) {
 	return b.style("mark:"+format, func() *excelize.Style {
-		st := &excelize.Style{Font: &excelize.Font{Italic: true},
+		st := &excelize.Style{Font: &excelize.Font{Italic: true}, Alignment: cellAlignment(),
 			Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{MarkFill}}}
 		if format != "" {
 			f := format
@@ -264,9 +271,18 @@ func (b *Book) TitleStyle() (int, error) {
 const titleFontSize = 12
 
 // WrapStyle returns the id of a wrapped-text style.
-func (b *Book) WrapStyle() (int, error) {
-	return b.style("wrap", func() *excelize.Style {
-		return &excelize.Style{Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}
+func (b *Book) WrapStyle() (int, error) { return b.WrapFormatStyle("") }
+
+// WrapFormatStyle returns the id of a wrapped-text style with a number
+// format code ("" for General).
+func (b *Book) WrapFormatStyle(format string) (int, error) {
+	return b.style("wrap:"+format, func() *excelize.Style {
+		st := &excelize.Style{Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
 	})
 }
 
@@ -352,11 +368,16 @@ func (b *Book) TitledTable(name, title string, cols []Column) (*SheetWriter, err
 		}
 	}
 	for i, c := range cols {
-		if c.Format == FormatSig3 {
+		switch {
+		case c.Format == FormatSig3:
 			s.styles[i] = -1
 			continue
+		case c.Wrap:
+			s.styles[i], err = b.WrapFormatStyle(c.Format)
+		default:
+			s.styles[i], err = b.Style(c.Format)
 		}
-		if s.styles[i], err = b.Style(c.Format); err != nil {
+		if err != nil {
 			return nil, err
 		}
 	}
