@@ -364,3 +364,42 @@ func TestHeaderWords(t *testing.T) {
 		t.Errorf("header row %g pt, want three lines", h)
 	}
 }
+
+// A wrapped column's cells wrap within its width, keep its number format,
+// and the row grows to the lines its longest text takes; cells align at
+// the top, level with a wrapped note's first line.
+func TestWrapColumn(t *testing.T) {
+	b := NewBook()
+	defer b.Close()
+	s, err := b.Table("g", []Column{{Name: "stage", Format: "0.000"}, {Name: "note", Width: 11, Wrap: true, Format: FormatText}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Row(1.5, "flood; measured from the footbridge"); err != nil { // 35 characters, 10 a line
+		t.Fatal(err)
+	}
+	if err := s.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeBook(t, b)
+	style := func(cell string) *excelize.Style {
+		id, err := f.GetCellStyle("g", cell)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := f.GetStyle(id)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return st
+	}
+	if st := style("B2"); st.Alignment == nil || !st.Alignment.WrapText || st.CustomNumFmt == nil || *st.CustomNumFmt != FormatText {
+		t.Errorf("note cell style %+v", st)
+	}
+	if st := style("A2"); st.Alignment == nil || st.Alignment.Vertical != "top" || st.Alignment.WrapText {
+		t.Errorf("stage cell style %+v", st)
+	}
+	if h, _ := f.GetRowHeight("g", 2); h != 4*lineHeight {
+		t.Errorf("row height %g pt, want 4 lines", h)
+	}
+}
