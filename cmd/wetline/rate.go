@@ -168,7 +168,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 // section (figureBase) and titled with site.
 func drawRating(rep *rating.RatingReport, path, site string) error {
 	base := figureBase(rep.Table.Name)
-	sub := fmt.Sprintf("section surveyed in %s", filepath.Base(path))
+	sub := fmt.Sprintf("section surveyed in %s", filepath.Base(rep.Ground.Source)) // the file, and the sheet
 	if path == "" {
 		sub = "built section " + rep.Ground.Source
 	}

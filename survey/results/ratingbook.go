@@ -42,12 +42,14 @@ func CheckRatingWorkbook(stages, subs int) error {
 // WriteRatingWorkbook writes a results workbook to w. Sheets:
 //
 //   - summary: section, source, program version, units, slope, banks,
-//     Manning's n by subsection, stage range, warnings and the caution;
+//     Manning's n by subsection, stage range, bankfull stage and
+//     discharge (BankfullOf), warnings and the caution;
 //   - rating: the full table, one row per stage, the columns of
-//     WriteRatingCSV with units in brackets; stage 0.000, discharges to
-//     three significant figures (FormatSig3);
-//   - lookup: discharge by stage in the printed layout of hydrometry, one
-//     row per tenth of a unit of stage and ten columns for the hundredths.
+//     WriteRatingCSV in words with units in brackets, flags last; stage
+//     0.000, discharges to three significant figures (FormatSig3);
+//   - lookup: discharge by stage in the printed layout of hydrometry under
+//     a title naming the discharge unit (LookupTitle), one row per tenth
+//     of a unit of stage and ten columns for the hundredths.
 //     Each cell is the hydraulics computed at that exact stage (taken from
 //     rep.Lookup, no interpolation), so it agrees with the rating sheet
 //     wherever both hold the same stage; a cell whose stage was not
