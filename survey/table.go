@@ -475,21 +475,54 @@ mantissa:
 
 // SectionSheets lists the sheets of a workbook that hold a survey: those
 // whose header row has station and elevation columns, in workbook order.
+// A sheet that cannot be read is an error (see SurveySheets to go on).
 func SectionSheets(path string) ([]string, error) {
+	sheets, err := SurveySheets(path)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	for _, s := range sheets {
+		if s.Err != nil {
+			return nil, s.Err
+		}
+		if s.Survey {
+			out = append(out, s.Sheet)
+		}
+	}
+	return out, nil
+}
+
+// SheetSurvey is what SurveySheets tells of one sheet of a workbook.
+type SheetSurvey struct {
+	// Sheet is the sheet's name.
+	Sheet string
+	// Survey reports that the sheet's first non-blank row names station
+	// (or easting and northing) and elevation columns.
+	Survey bool
+	// Err is why the sheet could not be read (a *ParseError naming the
+	// sheet); Survey is then false.
+	Err error
+}
+
+// SurveySheets tells, for every sheet of a workbook in workbook order,
+// whether it holds a survey (as SectionSheets does), or why it could not
+// be read: a sheet that cannot be read does not keep the others from
+// being told. The error is the workbook's, when it cannot be opened.
+func SurveySheets(path string) ([]SheetSurvey, error) {
 	f, err := openWorkbook(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	var out []string
+	var out []SheetSurvey
 	for _, sheet := range f.GetSheetList() {
 		ok, err := hasSurveyHeader(f, sheet)
+		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil}
 		if err != nil {
-			return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+			s.Err = &ParseError{File: path, Sheet: sheet, Err: err}
 		}
-		if ok {
-			out = append(out, sheet)
-		}
+		out = append(out, s)
 	}
 	return out, nil
 }

@@ -292,3 +292,40 @@ func TestBatchMissingFile(t *testing.T) {
 		t.Errorf("stdout:\n%s\nstderr:\n%s", stdout.String(), stderr.String())
 	}
 }
+
+// TestBatchFieldTemplate rates a field workbook whose blank cross-section
+// sheets (a header, no rows: two cross-section sheets and the coordinate
+// sheet) are skipped with a note, not failed; a
+// workbook of blank sheets alone rates nothing and fails saying so.
+func TestBatchFieldTemplate(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	survey := filepath.Join(dir, "xs.csv")
+	if err := os.WriteFile(survey, []byte(surveyCSV(0)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	field, blank := filepath.Join(dir, "field.xlsx"), filepath.Join(dir, "blank.xlsx")
+	for _, args := range [][]string{{"template", "-o", field, "--survey", survey}, {"template", "-o", blank}} {
+		if _, errs, code := runCLI(t, args...); code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errs)
+		}
+	}
+	out := filepath.Join(dir, "out")
+	_, errs, code := runCLI(t, "rate", field, "--all-sheets", "--slope", "0.001", "-o", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(errs, "rated 1 of 4 sections") || !strings.Contains(errs, "; 3 skipped") ||
+		!strings.Contains(errs, "skipped: XS-1: a header and no survey rows") || strings.Contains(errs, "failed") {
+		t.Errorf("summary:\n%s", errs)
+	}
+	idx := readCSV(t, filepath.Join(out, "index.csv"))
+	if len(idx) != 5 || idx[1][0] != "xs" || idx[1][2] != "xs.csv" || idx[2][0] != "XS-1" || idx[2][2] != "" ||
+		!strings.HasPrefix(idx[2][8], "skipped: ") || idx[2][9] != "" {
+		t.Errorf("index %q", idx)
+	}
+	stdout, errs, code := runCLI(t, "rate", blank, "--all-sheets", "--slope", "0.001", "--long")
+	if code != 1 || !strings.Contains(errs, "nothing was rated") || strings.Count(stdout, "\n") != 1 {
+		t.Errorf("blank workbook: exit %d, %d lines:\n%s", code, strings.Count(stdout, "\n"), errs)
+	}
+}

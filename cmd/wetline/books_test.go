@@ -25,6 +25,8 @@ type bookSheet struct {
 	f    *excelize.File
 	name string
 	rows [][]string
+	// title is the sheet's title line above the header ("" for none).
+	title string
 }
 
 // openBook opens a written workbook with raw (unformatted) cell values.
@@ -40,9 +42,24 @@ func openBook(t *testing.T, path string) *excelize.File {
 
 func readSheet(t *testing.T, f *excelize.File, name string) bookSheet {
 	t.Helper()
+	return readRows(t, f, name, false)
+}
+
+// readTitledSheet reads a sheet with a title line above its header.
+func readTitledSheet(t *testing.T, f *excelize.File, name string) bookSheet {
+	t.Helper()
+	return readRows(t, f, name, true)
+}
+
+func readRows(t *testing.T, f *excelize.File, name string, titled bool) bookSheet {
+	t.Helper()
 	rows, err := f.GetRows(name)
 	if err != nil {
 		t.Fatal(err)
+	}
+	title := ""
+	if titled && len(rows) > 0 && len(rows[0]) > 0 {
+		title, rows = rows[0][0], rows[1:]
 	}
 	if len(rows) == 0 {
 		t.Fatalf("sheet %q is empty", name)
@@ -53,13 +70,15 @@ func readSheet(t *testing.T, f *excelize.File, name string) bookSheet {
 			rows[i] = append(rows[i], "")
 		}
 	}
-	return bookSheet{f, name, rows}
+	return bookSheet{f, name, rows, title}
 }
 
-// col returns the 0-based index of the column whose header starts with
-// name, failing the test when there is none.
+// col returns the 0-based index of the column whose header is name
+// (written in words: underscores as spaces) with or without a unit in
+// brackets, failing the test when there is none.
 func (s bookSheet) col(t *testing.T, name string) int {
 	t.Helper()
+	name = strings.ReplaceAll(name, "_", " ")
 	for i, h := range s.rows[0] {
 		if h == name || strings.HasPrefix(h, name+" (") {
 			return i
@@ -82,7 +101,11 @@ func (s bookSheet) num(t *testing.T, i, c int) float64 {
 // style returns the fill colour and number format code of a cell.
 func (s bookSheet) style(t *testing.T, i, c int) (fill, format string) {
 	t.Helper()
-	cell, _ := excelize.CoordinatesToCellName(c+1, i+2)
+	top := 2
+	if s.title != "" {
+		top = 3
+	}
+	cell, _ := excelize.CoordinatesToCellName(c+1, i+top)
 	id, err := s.f.GetCellStyle(s.name, cell)
 	if err != nil {
 		t.Fatal(err)
@@ -281,8 +304,11 @@ func TestFitResultsWorkbook(t *testing.T) {
 		}
 		return s.C * math.Pow(h-s.E, s.B)
 	}
-	lk := readSheet(t, f, results.SheetLookup)
-	if lk.rows[0][0] != "stage (m)" || lk.rows[0][1] != "+0.00 (m)" || lk.rows[0][10] != "+0.09 (m)" {
+	lk := readTitledSheet(t, f, results.SheetLookup)
+	if !strings.HasPrefix(lk.title, "discharge (m3/s) at each stage") {
+		t.Errorf("lookup title %q", lk.title)
+	}
+	if lk.rows[0][0] != "stage (m)" || lk.rows[0][1] != "+0.00" || lk.rows[0][10] != "+0.09" {
 		t.Errorf("lookup header %q", lk.rows[0])
 	}
 	cells, onTable := 0, 0

@@ -38,6 +38,7 @@ func (e *env) deliver(d delivery) error {
 	f.Protect(d.inputs...)
 	var figPaths []string
 	if d.plots != "" {
+		d.figs = e.figures.place(d.plots, d.figs)
 		for _, fig := range d.figs {
 			figPaths = append(figPaths, filepath.Join(d.plots, fig.Name))
 		}

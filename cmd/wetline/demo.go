@@ -150,7 +150,7 @@ func (d *demo) copy(name, what string) error {
 
 // figures writes figures and lists them.
 func (d *demo) figures(figs []rating.Figure) error {
-	for _, f := range figs {
+	for _, f := range d.e.figures.place(d.dir, figs) {
 		png := f.PNG
 		if err := d.put(f.Name, f.Caption, func(w io.Writer) error { _, err := w.Write(png); return err }); err != nil {
 			return err

@@ -63,6 +63,8 @@ type env struct {
 	// progressDelay is how long a batch runs before it shows a progress
 	// line; progressEvery the shortest time between two updates.
 	progressDelay, progressEvery time.Duration
+	// figures are the figure files the run has written.
+	figures runFigures
 }
 
 // newEnv returns an environment writing to stdout and stderr.

@@ -54,7 +54,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)
-	in := plotting.RatingFigures{Site: sf.site, Base: t.Name, Table: t, ZeroFlow: *zeroFlow, Size: size,
+	in := plotting.RatingFigures{Site: sf.site, Base: figureBase(t.Name), Table: t, ZeroFlow: *zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if *section != "" {
 		p, err := sf.prepareIn(*section, t.Units)

@@ -8,7 +8,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"strings"
 	"wetline/survey"
 
 	"wetline/plotting"
@@ -166,12 +165,12 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 }
 
 // drawRating draws a rating report's figures into it, named after the
-// survey file (or the section) and titled with site.
+// section (figureBase) and titled with site.
 func drawRating(rep *rating.RatingReport, path, site string) error {
-	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-	sub := fmt.Sprintf("section surveyed in %s", filepath.Base(path))
+	base := figureBase(rep.Table.Name)
+	sub := fmt.Sprintf("section surveyed in %s", filepath.Base(rep.Ground.Source)) // the file, and the sheet
 	if path == "" {
-		base, sub = rep.Table.Name, "built section "+rep.Ground.Source
+		sub = "built section " + rep.Ground.Source
 	}
 	figs, warnings, err := plotting.DrawRating(plotting.RatingFigures{Site: site, Base: base, Subtitle: sub,
 		Table: rep.Table, Ground: rep.Ground, ZeroFlow: math.NaN()})

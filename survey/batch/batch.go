@@ -4,6 +4,9 @@
 // input order; a section that fails is listed with its error and does not
 // stop the others.
 //
+// A survey with a header and no rows (a blank sheet of the field
+// workbook) is skipped with a note, not failed.
+//
 // A batch writes either a folder (one table per section and an index,
 // replaced whole when the run succeeds: see output.Folder) or one long
 // table with a section column.
@@ -22,6 +25,7 @@ import (
 	"sync"
 
 	"wetline/rating"
+	"wetline/subdivide"
 	"wetline/survey"
 	"wetline/survey/output"
 	"wetline/survey/results"
@@ -101,7 +105,9 @@ func surveyFiles(dir string) ([]string, error) {
 	return out, nil
 }
 
-// fileJobs returns the jobs of one input file.
+// fileJobs returns the jobs of one input file: a CSV file, the named
+// sheet, or every survey sheet of a workbook, each sheet that cannot be
+// read being a failing job of its own.
 func fileJobs(path, sheet string) []Job {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	switch {
@@ -110,19 +116,25 @@ func fileJobs(path, sheet string) []Job {
 	case sheet != "":
 		return []Job{{Path: path, Sheet: sheet, Name: sheet}}
 	}
-	sheets, err := survey.SectionSheets(path)
-	if err == nil && len(sheets) == 0 {
-		err = fmt.Errorf("%s: no sheet has a station and an elevation column", path)
-	}
+	sheets, err := survey.SurveySheets(path)
 	if err != nil {
 		return []Job{{Path: path, Name: base, Err: err}}
 	}
-	jobs := make([]Job, len(sheets))
-	for i, s := range sheets {
-		jobs[i] = Job{Path: path, Sheet: s, Name: s}
+	var jobs []Job
+	for _, s := range sheets {
+		if s.Survey || s.Err != nil {
+			jobs = append(jobs, Job{Path: path, Sheet: s.Sheet, Name: s.Sheet, Err: s.Err})
+		}
+	}
+	if len(jobs) == 0 {
+		return []Job{{Path: path, Name: base, Err: fmt.Errorf("%s: %w", path, ErrNoSurveySheet)}}
 	}
 	return jobs
 }
+
+// ErrNoSurveySheet is the cause of a workbook none of whose sheets holds
+// a survey.
+var ErrNoSurveySheet = errors.New("no sheet has a station and an elevation column")
 
 // uniqueNames gives every job a distinct section name and output file
 // name (case-insensitively, the index file's name kept free).
@@ -184,11 +196,18 @@ type Options struct {
 type Result struct {
 	// Entry is the job's line of the index.
 	Entry results.IndexEntry
-	// Table is the rating table (no rows when the job failed).
+	// Table is the rating table (no rows when the job failed or was
+	// skipped).
 	Table rating.Table
 }
 
-// Rate reads and rates one job.
+// SkippedNote says why a section was skipped: its table has a header and
+// no rows, as the blank cross-section sheets of a field workbook have.
+const SkippedNote = "a header and no survey rows"
+
+// Rate reads and rates one job. A survey with a header and no rows is
+// skipped (Entry.Skipped), not failed: a field workbook holds blank
+// cross-section sheets until the crew fills them.
 func Rate(j Job, opt Options) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
@@ -204,6 +223,10 @@ func Rate(j Job, opt Options) Result {
 	req.Path, req.Sheet = j.Path, j.Sheet
 	p, err := survey.Prepare(req)
 	if err != nil {
+		if headerOnly(j, err) {
+			en.Skipped = SkippedNote
+			return Result{Entry: en}
+		}
 		return fail(err)
 	}
 	if opt.ReadOnly {
@@ -231,6 +254,17 @@ func Rate(j Job, opt Options) Result {
 	return Result{Entry: en, Table: t}
 }
 
+// headerOnly reports whether a survey that failed with err has a header
+// and no data rows. Only a survey found with too few points is read again
+// to tell.
+func headerOnly(j Job, err error) bool {
+	if !errors.Is(err, subdivide.ErrTooFewPoints) {
+		return false
+	}
+	t, rerr := survey.ReadTable(j.Path, j.Sheet)
+	return rerr == nil && len(t.Header) > 0 && len(t.Records) == 0
+}
+
 // Run rates the jobs on a pool of workers and calls emit for every job in
 // input order, from the calling goroutine. At most a few results per
 // worker wait to be emitted, so memory stays bounded however long the
@@ -256,26 +290,47 @@ func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result
 type Summary struct {
 	// Entries are the index lines, in input order.
 	Entries []results.IndexEntry
-	// Failed counts the sections that failed.
-	Failed int
+	// Failed counts the sections that failed, Skipped those without
+	// survey rows.
+	Failed, Skipped int
+}
+
+// add counts an entry and appends it.
+func (s *Summary) add(en results.IndexEntry) {
+	switch {
+	case en.Err != "":
+		s.Failed++
+	case en.Skipped != "":
+		s.Skipped++
+	}
+	s.Entries = append(s.Entries, en)
 }
 
 // ErrFailed is the cause of a batch in which some sections failed.
 var ErrFailed = errors.New("sections failed")
 
-// Err returns nil when every section was rated, else an error saying how
-// many failed (wrapping ErrFailed).
+// ErrNothingRated is the cause of a batch whose every section was
+// skipped.
+var ErrNothingRated = errors.New("no section has survey rows: nothing was rated")
+
+// Err returns nil when every section was rated or skipped and at least
+// one rated; else an error saying how many failed (wrapping ErrFailed),
+// or that all were skipped (ErrNothingRated).
 func (s Summary) Err(where string) error {
-	if s.Failed == 0 {
-		return nil
+	switch {
+	case s.Failed > 0:
+		return fmt.Errorf("%d of %d %w (each is listed with its error %s)", s.Failed, len(s.Entries), ErrFailed, where)
+	case s.Skipped > 0 && s.Skipped == len(s.Entries):
+		return fmt.Errorf("%d skipped, %w", s.Skipped, ErrNothingRated)
 	}
-	return fmt.Errorf("%d of %d %w (each is listed with its error %s)", s.Failed, len(s.Entries), ErrFailed, where)
+	return nil
 }
 
 // Folder rates the jobs into a batch folder at dir, staged in files (the
 // folder replaces an earlier one only when files is committed): one table
 // per section in format "csv" or "json", and the index. Only the index
-// and the tables of sections that were rated are written.
+// and the tables of sections that were rated are written; the index lists
+// every section, failed and skipped ones too.
 func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	d, err := files.Folder(dir, IndexFile)
@@ -283,7 +338,7 @@ func Folder(ctx context.Context, files *output.Files, dir, format string, jobs [
 		return sum, err
 	}
 	err = Run(ctx, jobs, opt, func(i int, r Result) error {
-		if r.Entry.Err == "" {
+		if r.Entry.Err == "" && r.Entry.Skipped == "" {
 			rep := rating.RatingReport{Table: r.Table, Warnings: r.Entry.Warnings}
 			if err := d.Write(jobs[i].Output, func(w io.Writer) error {
 				if format == "json" {
@@ -294,10 +349,8 @@ func Folder(ctx context.Context, files *output.Files, dir, format string, jobs [
 				return err
 			}
 			r.Entry.Output = jobs[i].Output
-		} else {
-			sum.Failed++
 		}
-		sum.Entries = append(sum.Entries, r.Entry)
+		sum.add(r.Entry)
 		return nil
 	})
 	if err != nil {
@@ -307,14 +360,14 @@ func Folder(ctx context.Context, files *output.Files, dir, format string, jobs [
 }
 
 // Long rates the jobs into one long CSV table written to w (see
-// results.LongRatingWriter). Sections that fail are left out.
+// results.LongRatingWriter). Sections that fail or are skipped are left
+// out.
 func Long(ctx context.Context, w io.Writer, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	long := results.NewLongRatingWriter(w)
 	err := Run(ctx, jobs, opt, func(i int, r Result) error {
-		sum.Entries = append(sum.Entries, r.Entry)
-		if r.Entry.Err != "" {
-			sum.Failed++
+		sum.add(r.Entry)
+		if r.Entry.Err != "" || r.Entry.Skipped != "" {
 			return nil
 		}
 		return long.Write(r.Entry.Section, r.Table)

@@ -27,6 +27,10 @@ type IndexEntry struct {
 	// Warnings are the section's warnings; Err its error ("" when rated).
 	Warnings []string
 	Err      string
+	// Skipped says why the section was not rated though it did not fail
+	// ("" when it was rated or failed); the index writes it, after
+	// "skipped: ", first among the warnings.
+	Skipped string
 }
 
 // IndexColumns returns the column names of a batch index table, in order.
@@ -40,15 +44,19 @@ const WarningSeparator = " | "
 
 // WriteIndexCSV writes the index of a batch rating: a header row
 // (IndexColumns()) and one row per entry, in the order given. Undefined
-// numbers are empty cells.
+// numbers are empty cells; a skipped section's note leads its warnings.
 func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 	cw := csv.NewWriter(w)
 	cw.Write(IndexColumns())
 	for _, e := range entries {
+		warnings := e.Warnings
+		if e.Skipped != "" {
+			warnings = append([]string{"skipped: " + e.Skipped}, warnings...)
+		}
 		cw.Write([]string{e.Section, e.Source, e.Output, strconv.Itoa(e.Rows),
 			FormatFloat(e.StageMin), FormatFloat(e.StageMax),
 			FormatFloat(e.BankfullStage), FormatFloat(e.BankfullDischarge),
-			strings.Join(e.Warnings, WarningSeparator), e.Err})
+			strings.Join(warnings, WarningSeparator), e.Err})
 	}
 	cw.Flush()
 	return cw.Error()

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -59,5 +60,44 @@ func TestLongRatingWriter(t *testing.T) {
 	}
 	if n := strings.Count(lines[0], ","); n != len(RatingColumns())+len(ExtraRatingColumns()) {
 		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns())+len(ExtraRatingColumns()))
+	}
+}
+
+// The batch summary counts rated, failed and skipped sections, lists the
+// failed ones with their errors and the skipped ones with their notes
+// (each at most MaxListed, then how many more), and ends with the caution;
+// the index writes a skipped section's note first among its warnings.
+func TestBatchSummaryAndSkipped(t *testing.T) {
+	nan := math.NaN()
+	entry := func(name, err, skipped string) IndexEntry {
+		return IndexEntry{Section: name, Source: name + ".csv", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan,
+			Err: err, Skipped: skipped, Warnings: []string{"w"}}
+	}
+	entries := []IndexEntry{entry("XS-1", "", ""), entry("XS-2", "", "blank"), entry("XS-3", "bad cell", "")}
+	var b strings.Builder
+	if err := WriteBatchSummary(&b, entries, "out"); err != nil {
+		t.Fatal(err)
+	}
+	want := "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
+	if b.String() != want {
+		t.Errorf("summary\n%s\nwant\n%s", b.String(), want)
+	}
+	b.Reset()
+	var many []IndexEntry
+	for i := range MaxListed + 3 {
+		many = append(many, entry(fmt.Sprintf("s%d", i), "bad", ""))
+	}
+	if err := WriteBatchSummary(&b, many, "out"); err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(b.String(), "failed: s"); n != MaxListed || !strings.Contains(b.String(), "failed: and 3 more\n") {
+		t.Errorf("%d failed listed:\n%s", n, b.String())
+	}
+	b.Reset()
+	if err := WriteIndexCSV(&b, entries[1:2]); err != nil {
+		t.Fatal(err)
+	}
+	if want := "XS-2,XS-2.csv,,0,,,,,skipped: blank | w,\n"; !strings.HasSuffix(b.String(), want) {
+		t.Errorf("index row %q, want %q", b.String(), want)
 	}
 }

@@ -219,6 +219,10 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 	}
 }
 
+// textWidth is the width, in characters, of a wrapped column of text (a
+// note, a reason, a source) on a wide sheet.
+const textWidth = 16
+
 // writeGaugingsSheet writes one row per gauging, in input order.
 func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 	u := r.Units
@@ -228,9 +232,9 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "quality", Width: 10},
-		{Name: "note", Width: 24},
+		{Name: "note", Width: textWidth, Wrap: true},
 		{Name: survey.ColGaugingUncertainty, Unit: "%", Format: "0.0"},
-		{Name: survey.ColGaugingExclude, Width: 20},
+		{Name: survey.ColGaugingExclude, Width: 12, Wrap: true},
 		{Name: "uncertainty_used", Unit: "%", Format: "0.0"},
 	}
 	if r.Comparison != nil {
@@ -238,7 +242,7 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 			workbook.Column{Name: "hydraulic", Unit: Q, Format: workbook.FormatSig3},
 			workbook.Column{Name: "hydraulic_departure", Unit: "%", Format: "0.0"},
 			workbook.Column{Name: "hydraulic_shift", Unit: L, Format: "0.000"},
-			workbook.Column{Name: "hydraulic_outside_band", Width: 12})
+			workbook.Column{Name: "hydraulic_outside_band"})
 	}
 	if r.Fit != nil {
 		cols = append(cols,
@@ -246,15 +250,15 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 			workbook.Column{Name: "departure", Unit: "%", Format: "0.0"},
 			workbook.Column{Name: "log_residual", Format: "0.0000"},
 			workbook.Column{Name: "shift", Unit: L, Format: "0.000"},
-			workbook.Column{Name: "outside_band", Width: 12},
+			workbook.Column{Name: "outside_band"},
 			workbook.Column{Name: "weight", Format: "0.000"},
-			workbook.Column{Name: "excluded", Width: 10},
-			workbook.Column{Name: "excluded_reason", Width: 28})
+			workbook.Column{Name: "excluded"},
+			workbook.Column{Name: "excluded_reason", Width: textWidth, Wrap: true})
 	}
 	if r.Calibration != nil {
 		cols = append(cols, workbook.Column{Name: "factor_on_n", Format: "0.000"}, workbook.Column{Name: "n", Format: "0.0000"})
 	}
-	cols = append(cols, workbook.Column{Name: "source", Width: 24})
+	cols = append(cols, workbook.Column{Name: "source", Width: textWidth, Wrap: true})
 	s, err := b.Table(SheetGaugings, cols)
 	if err != nil {
 		return err

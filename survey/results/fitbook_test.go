@@ -5,6 +5,7 @@ import (
 	"math"
 	"slices"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -69,10 +70,14 @@ func TestWriteLookupCellsMarked(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rows) != 5 || rows[1][0] != "0.9" || rows[4][0] != "1.2" { // header, 0.9, 1.0, 1.1, 1.2
+	// Title, header, 0.9, 1.0, 1.1, 1.2.
+	if len(rows) != 6 || rows[0][0] != results.LookupTitle(rating.SI) || rows[1][1] != "+0.00" || rows[2][0] != "0.9" || rows[5][0] != "1.2" {
 		t.Fatalf("rows %q", rows)
 	}
-	for r := 1; r < len(rows); r++ {
+	if !strings.Contains(rows[0][0], "discharge (m3/s)") {
+		t.Errorf("lookup title %q does not say the cells are discharge in m3/s", rows[0][0])
+	}
+	for r := 2; r < len(rows); r++ {
 		tenth, _ := strconv.ParseFloat(rows[r][0], 64)
 		for j := 1; j <= 10; j++ {
 			k := int(math.Round(tenth*100)) + j - 1

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"wetline/rating"
 	"wetline/subdivide"
@@ -41,12 +42,14 @@ func CheckRatingWorkbook(stages, subs int) error {
 // WriteRatingWorkbook writes a results workbook to w. Sheets:
 //
 //   - summary: section, source, program version, units, slope, banks,
-//     Manning's n by subsection, stage range, warnings and the caution;
+//     Manning's n by subsection, stage range, bankfull stage and
+//     discharge (BankfullOf), warnings and the caution;
 //   - rating: the full table, one row per stage, the columns of
-//     WriteRatingCSV with units in brackets; stage 0.000, discharges to
-//     three significant figures (FormatSig3);
-//   - lookup: discharge by stage in the printed layout of hydrometry, one
-//     row per tenth of a unit of stage and ten columns for the hundredths.
+//     WriteRatingCSV in words with units in brackets, flags last; stage
+//     0.000, discharges to three significant figures (FormatSig3);
+//   - lookup: discharge by stage in the printed layout of hydrometry under
+//     a title naming the discharge unit (LookupTitle), one row per tenth
+//     of a unit of stage and ten columns for the hundredths.
 //     Each cell is the hydraulics computed at that exact stage (taken from
 //     rep.Lookup, no interpolation), so it agrees with the rating sheet
 //     wherever both hold the same stage; a cell whose stage was not
@@ -91,7 +94,7 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 }
 
 // RatingSheetColumns returns the columns of a rating sheet for t: the
-// names of WriteRatingCSV with units and number formats.
+// names of WriteRatingCSV (flags last) with units and number formats.
 func RatingSheetColumns(t rating.Table) []workbook.Column {
 	u := t.Units
 	L, A, Q := u.Length(), u.Area(), u.Discharge()
@@ -114,12 +117,21 @@ func RatingSheetColumns(t rating.Table) []workbook.Column {
 	return append(cols,
 		workbook.Column{Name: "hydraulic_depth", Unit: L, Format: "0.000"},
 		workbook.Column{Name: "beta", Format: "0.000"},
-		workbook.Column{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"})
+		workbook.Column{Name: "shear_stress", Unit: u.Stress(), Format: "0.0"},
+		workbook.Column{Name: "flags", Format: workbook.FormatText, Width: flagsWidth})
 }
+
+// flagsWidth is the width, in characters, of a rating sheet's flags
+// column: the longest flag; more flags wrap below.
+const flagsWidth = 17
 
 // WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
 func WriteRatingSheet(b *workbook.Book, name string, t rating.Table) error {
 	s, err := b.Table(name, RatingSheetColumns(t))
+	if err != nil {
+		return err
+	}
+	ws, err := b.WrapStyle()
 	if err != nil {
 		return err
 	}
@@ -128,6 +140,9 @@ func WriteRatingSheet(b *workbook.Book, name string, t rating.Table) error {
 		vals = vals[:0]
 		for _, v := range rowValues(r) {
 			vals = append(vals, v)
+		}
+		if len(r.Flags) > 0 {
+			vals = append(vals, workbook.Styled{Style: ws, Value: strings.Join(r.Flags, " ")})
 		}
 		if err := s.Row(vals...); err != nil {
 			return err
@@ -166,7 +181,7 @@ func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []Loo
 	L := u.Length()
 	cols := []workbook.Column{{Name: "stage", Unit: L, Format: "0.0"}}
 	for j := range 10 {
-		cols = append(cols, workbook.Column{Name: fmt.Sprintf("+0.0%d", j), Unit: L, Format: workbook.FormatSig3, Width: 10})
+		cols = append(cols, workbook.Column{Name: fmt.Sprintf("+0.0%d", j), Format: workbook.FormatSig3, Width: 10})
 	}
 	q := map[int64]LookupCell{}
 	lo, hi := int64(math.MaxInt64), int64(math.MinInt64)
@@ -178,7 +193,7 @@ func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []Loo
 		q[k] = c
 		lo, hi = min(lo, k), max(hi, k)
 	}
-	s, err := b.Table(name, cols)
+	s, err := b.TitledTable(name, LookupTitle(u), cols)
 	if err != nil {
 		return err
 	}
@@ -211,6 +226,13 @@ func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []Loo
 		}
 	}
 	return s.Flush()
+}
+
+// LookupTitle is the title line of a lookup sheet: what its cells hold,
+// in which unit, and how to read them.
+func LookupTitle(u rating.Units) string {
+	return fmt.Sprintf("discharge (%s) at each stage: the stage (%s) of the row plus the hundredths at the head of the column",
+		u.Discharge(), u.Length())
 }
 
 // lookupCell sets *dst to a lookup value (ok) or a blank, on the band
@@ -373,6 +395,11 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 			SummaryItem{"stages rated", fmt.Sprintf("%d, from %.3f to %.3f", len(t.Rows), lo.Stage, hi.Stage), u.Length()},
 			SummaryItem{"discharge at the highest stage", q, u.Discharge()})
 	}
+	bank, err := bankfullItems(b, rep)
+	if err != nil {
+		return err
+	}
+	items = append(items, bank...)
 	if len(rep.Lookup.Rows) > 0 {
 		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
 	}
@@ -383,7 +410,7 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 // the head and the caution at the foot.
 func newBook(title string) *workbook.Book {
 	b := workbook.NewBook()
-	b.Title, b.Footer = title, rating.Caution
+	b.Title, b.Footer, b.Words = title, rating.Caution, true
 	return b
 }
 

@@ -3,6 +3,7 @@ package results_test
 import (
 	"archive/zip"
 	"bytes"
+	"encoding/csv"
 	"fmt"
 	"image"
 	"image/color"
@@ -249,9 +250,13 @@ func TestRatingWorkbook(t *testing.T) {
 		if err != nil || pl.FitToWidth == nil || *pl.FitToWidth != 1 {
 			t.Errorf("%s: page layout %+v %v, want one page wide", sheet, pl, err)
 		}
+		head := "!$1:$1"
+		if sheet == "lookup" { // a title line above the header
+			head = "!$1:$2"
+		}
 		titles := false
 		for _, dn := range f.GetDefinedName() {
-			if dn.Name == "_xlnm.Print_Titles" && dn.Scope == sheet && strings.HasSuffix(dn.RefersTo, "!$1:$1") {
+			if dn.Name == "_xlnm.Print_Titles" && dn.Scope == sheet && strings.HasSuffix(dn.RefersTo, head) {
 				titles = true
 			}
 		}
@@ -267,7 +272,7 @@ func TestRatingWorkbook(t *testing.T) {
 	// Lookup: discharges to three significant figures, every other row
 	// shaded.
 	fills := 0
-	for _, cell := range []string{"E2", "E3", "E4", "E5"} {
+	for _, cell := range []string{"E3", "E4", "E5", "E6"} {
 		v, err := f.GetCellValue("lookup", cell)
 		if err != nil {
 			t.Fatal(err)
@@ -401,7 +406,11 @@ func TestLookupGolden(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if want := []string{"stage (m)", "+0.00 (m)", "+0.01 (m)"}; !slices.Equal(rows[0][:3], want) || len(rows[0]) != 11 {
+		if rows[0][0] != results.LookupTitle(rating.SI) {
+			t.Errorf("lookup title %q", rows[0])
+		}
+		rows = rows[1:]
+		if want := []string{"stage (m)", "+0.00", "+0.01"}; !slices.Equal(rows[0][:3], want) || len(rows[0]) != 11 {
 			t.Errorf("lookup header %q", rows[0])
 		}
 		checked := 0
@@ -516,5 +525,63 @@ func TestLongTitle(t *testing.T) {
 	hf, err := f.GetHeaderFooter("rating")
 	if err != nil || !strings.Contains(hf.OddHeader, "Mill && Tallow") || !strings.Contains(hf.OddHeader, "…") {
 		t.Errorf("header %q (%v)", hf.OddHeader, err)
+	}
+}
+
+// The rating sheet's headers are the CSV's column names in words with
+// their units (wetted perimeter (m)), in the CSV's order, flags last; its
+// flags cells are the CSV's; and CSV keeps its snake_case names.
+func TestRatingSheetHeadersInWords(t *testing.T) {
+	coarse, _ := wbTallow(t)
+	rep := rating.RatingReport{Table: coarse}
+	var csvBuf bytes.Buffer
+	if err := results.WriteRatingCSV(&csvBuf, rep); err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(&csvBuf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := writeResults(t, rep)
+	rows, err := f.GetRows(results.SheetRating)
+	if err != nil {
+		t.Fatal(err)
+	}
+	head := rows[0]
+	if len(head) != len(recs[0]) || head[len(head)-1] != "flags" {
+		t.Fatalf("rating sheet header %q, CSV header %q", head, recs[0])
+	}
+	units := map[string]string{"stage": "m", "wetted_perimeter": "m", "area": "m2", "discharge": "m3/s", "conveyance": "m3/s",
+		"mean_velocity": "m/s", "shear_stress": "Pa", "alpha": "", "flags": ""}
+	for i, name := range recs[0] {
+		if strings.Contains(name, " ") || strings.ToLower(name) != name {
+			t.Errorf("CSV column %q is not snake_case", name)
+		}
+		words := strings.ReplaceAll(name, "_", " ")
+		if u, ok := units[name]; ok && u != "" {
+			words += " (" + u + ")"
+		}
+		if _, ok := units[name]; ok && head[i] != words {
+			t.Errorf("column %d: header %q, want %q", i+1, head[i], words)
+		}
+		if w, _, _ := strings.Cut(head[i], " ("); strings.ReplaceAll(w, " ", "_") != name {
+			t.Errorf("column %d: header %q does not read as %q", i+1, head[i], name)
+		}
+	}
+	flagged := 0
+	for i, rec := range recs[1:] {
+		got := ""
+		if len(rows[i+1]) == len(head) {
+			got = rows[i+1][len(head)-1]
+		}
+		if want := rec[len(rec)-1]; got != want {
+			t.Errorf("row %d: flags %q, CSV %q", i+2, got, want)
+		}
+		if got != "" {
+			flagged++
+		}
+	}
+	if flagged == 0 {
+		t.Errorf("no flagged row in the demo table: the flags column is not checked")
 	}
 }

@@ -318,19 +318,19 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "quality", Width: 10},
-		{Name: "note", Width: 20},
+		{Name: "note", Width: textWidth, Wrap: true},
 		{Name: "rating_period", Format: "0"},
 		{Name: "rated", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "departure", Unit: "%", Format: "0.0"},
-		{Name: "outside_band", Width: 12},
+		{Name: "outside_band"},
 		{Name: "shift", Unit: L, Format: "0.000"},
 		{Name: "applied_shift", Unit: L, Format: "0.000"},
 		{Name: "residual_shift", Unit: L, Format: "0.000"},
 		{Name: "shifted", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "shifted_departure", Unit: "%", Format: "0.0"},
-		{Name: "outside_band_shifted", Width: 12},
+		{Name: "outside_band_shifted"},
 		{Name: "visit", Format: "0"},
-		{Name: "source", Width: 24},
+		{Name: "source", Width: textWidth, Wrap: true},
 	})
 	if err != nil {
 		return err

@@ -135,27 +135,51 @@ func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) 
 	return endSummary(bw, rep.Warnings)
 }
 
-// MaxListed bounds how many failed sections a batch summary lists.
+// MaxListed bounds how many failed sections a batch summary lists, and
+// how many skipped ones.
 const MaxListed = 20
 
 // WriteBatchSummary says where a batch was written and lists the
-// sections that failed (at most MaxListed).
+// sections that failed and those skipped (at most MaxListed of each).
 func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string) error {
 	bw := bufio.NewWriter(w)
-	failed := 0
+	failed, skipped := 0, 0
 	for _, en := range entries {
-		if en.Err != "" {
+		switch {
+		case en.Err != "":
 			failed++
+		case en.Skipped != "":
+			skipped++
 		}
 	}
-	fmt.Fprintf(bw, "rated %d of %d sections into %s\n", len(entries)-failed, len(entries), where)
-	shown := 0
-	for _, en := range entries {
-		if en.Err != "" && shown < MaxListed {
-			fmt.Fprintf(bw, "failed: %s: %s\n", en.Section, en.Err)
-			shown++
+	fmt.Fprintf(bw, "rated %d of %d sections into %s", len(entries)-failed-skipped, len(entries), where)
+	if skipped > 0 {
+		fmt.Fprintf(bw, "; %d skipped", skipped)
+	}
+	fmt.Fprintln(bw)
+	list := func(word string, note func(IndexEntry) string) {
+		shown, more := 0, 0
+		for _, en := range entries {
+			switch n := note(en); {
+			case n == "":
+			case shown < MaxListed:
+				fmt.Fprintf(bw, "%s: %s: %s\n", word, en.Section, n)
+				shown++
+			default:
+				more++
+			}
+		}
+		if more > 0 {
+			fmt.Fprintf(bw, "%s: and %d more\n", word, more)
 		}
 	}
+	list("failed", func(en IndexEntry) string { return en.Err })
+	list("skipped", func(en IndexEntry) string {
+		if en.Err != "" {
+			return ""
+		}
+		return en.Skipped
+	})
 	return endSummary(bw, nil)
 }
 

@@ -28,6 +28,9 @@ type Column struct {
 	// Width is the column width in characters; 0 fits the header (at least
 	// MinColumnWidth).
 	Width float64
+	// Wrap wraps the column's cells within its width, the row growing to
+	// show them, so that a column of notes stays narrow on the page.
+	Wrap bool
 }
 
 // Header returns the header cell text: the name and the unit in brackets.
@@ -135,7 +138,14 @@ type Book struct {
 	Title string
 	// Footer is printed at the foot of every page (wetline's writers put
 	// the caution there); set it before adding sheets.
-	Footer  string
+	Footer string
+	// Words writes the headers of table sheets in words: a column's Name
+	// with its underscores as spaces, then its unit ("wetted perimeter
+	// (m)" for wetted_perimeter). survey.Table.Column takes spaces for
+	// underscores, so such a sheet still reads back by Name (but for an
+	// underscore between digits, written as a decimal point: p2_5 is
+	// "p2.5"). Input sheets keep the names a field crew types.
+	Words   bool
 	f       *excelize.File
 	styles  map[string]int
 	first   bool // the default sheet has not been claimed yet
@@ -160,11 +170,15 @@ func (b *Book) NewSheet(name string) error {
 	return err
 }
 
+// cellAlignment is the alignment of table cells: at the top, so that the
+// cells of a row line up with the first line of a wrapped note.
+func cellAlignment() *excelize.Alignment { return &excelize.Alignment{Vertical: "top"} }
+
 // Style returns the id of a cell style with a number format code ("" for
 // General), cached per code.
 func (b *Book) Style(format string) (int, error) {
 	return b.style("num:"+format, func() *excelize.Style {
-		st := &excelize.Style{}
+		st := &excelize.Style{Alignment: cellAlignment()}
 		if format != "" {
 			f := format
 			st.CustomNumFmt = &f
@@ -201,7 +215,7 @@ func (b *Book) LabelStyle() (int, error) {
 // table.
 func (b *Book) BandStyle(format string) (int, error) {
 	return b.style("band:"+format, func() *excelize.Style {
-		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}}
+		st := &excelize.Style{Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{colourLabelFill}}, Alignment: cellAlignment()}
 		if format != "" {
 			f := format
 			st.CustomNumFmt = &f
@@ -220,7 +234,7 @@ const MarkFill = "F8DDBA"
 // discharges.
 func (b *Book) MarkStyle(format string) (int, error) {
 	return b.style("mark:"+format, func() *excelize.Style {
-		st := &excelize.Style{Font: &excelize.Font{Italic: true},
+		st := &excelize.Style{Font: &excelize.Font{Italic: true}, Alignment: cellAlignment(),
 			Fill: excelize.Fill{Type: "pattern", Pattern: 1, Color: []string{MarkFill}}}
 		if format != "" {
 			f := format
@@ -241,10 +255,34 @@ func (b *Book) Marked(format string, v any) (Styled, error) {
 	return Styled{id, v}, err
 }
 
+// TitleStyle returns the id of the style of a sheet's title line: bold,
+// a size larger than the cells, wrapped.
+func (b *Book) TitleStyle() (int, error) {
+	return b.style("title", func() *excelize.Style {
+		return &excelize.Style{
+			Font:      &excelize.Font{Bold: true, Size: titleFontSize},
+			Alignment: &excelize.Alignment{Vertical: "center", WrapText: true},
+		}
+	})
+}
+
+// titleFontSize is the font size of a title line, in points (the cells'
+// is 11).
+const titleFontSize = 12
+
 // WrapStyle returns the id of a wrapped-text style.
-func (b *Book) WrapStyle() (int, error) {
-	return b.style("wrap", func() *excelize.Style {
-		return &excelize.Style{Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}
+func (b *Book) WrapStyle() (int, error) { return b.WrapFormatStyle("") }
+
+// WrapFormatStyle returns the id of a wrapped-text style with a number
+// format code ("" for General).
+func (b *Book) WrapFormatStyle(format string) (int, error) {
+	return b.style("wrap:"+format, func() *excelize.Style {
+		st := &excelize.Style{Alignment: &excelize.Alignment{Vertical: "top", WrapText: true}}
+		if format != "" {
+			f := format
+			st.CustomNumFmt = &f
+		}
+		return st
 	})
 }
 
@@ -260,38 +298,6 @@ func (b *Book) style(key string, build func() *excelize.Style) (int, error) {
 	return id, nil
 }
 
-// maxPrintTitle bounds the title printed at the head of a page (the
-// whole header may hold 255 characters).
-const maxPrintTitle = 100
-
-// printSetup makes a sheet print one page wide, as many pages tall as
-// needed, with the header row repeated on every page, the title, sheet
-// and page number at the head and the caution at the foot. It must run
-// before the sheet's stream writer is created.
-func (b *Book) printSetup(sheet string) error {
-	title := []rune(b.Title)
-	if len(title) > maxPrintTitle {
-		title = append(title[:maxPrintTitle-1], '…')
-	}
-	head := strings.NewReplacer("&", "&&").Replace(string(title))
-	if err := b.f.SetHeaderFooter(sheet, &excelize.HeaderFooterOptions{
-		OddHeader: "&L" + head + "&R&A, page &P of &N",
-		OddFooter: "&L&7" + strings.NewReplacer("&", "&&").Replace(b.Footer),
-	}); err != nil {
-		return err
-	}
-	fit, one, zero := true, 1, 0
-	if err := b.f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
-		return err
-	}
-	if err := b.f.SetPageLayout(sheet, &excelize.PageLayoutOptions{FitToWidth: &one, FitToHeight: &zero}); err != nil {
-		return err
-	}
-	return b.f.SetDefinedName(&excelize.DefinedName{
-		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("'%s'!$1:$1", sheet), Scope: sheet,
-	})
-}
-
 // SheetWriter streams the rows of one table sheet. Its header row is
 // styled and frozen; column widths and number formats come from the
 // Columns.
@@ -302,15 +308,26 @@ type SheetWriter struct {
 	sw     *excelize.StreamWriter
 	styles []int // per column; -1 for FormatSig3
 	widths []float64
-	row    int
-	buf    []any
-	cells  []excelize.Cell
+	row    int // the last row written
+	// headRows are the rows above the data: the header, and the title
+	// when there is one.
+	headRows int
+	buf      []any
+	cells    []excelize.Cell
 }
 
 // Table starts a table sheet named name with a header row of cols. Rows
 // follow through Row; Flush ends the sheet. One table sheet is written at
-// a time.
+// a time. A column without a Width is as wide as its header needs wrapped
+// onto two lines.
 func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
+	return b.TitledTable(name, "", cols)
+}
+
+// TitledTable is Table with a title line above the header row (none when
+// title is ""), saying what the cells of the sheet hold; the title and
+// the header are frozen and repeated on every printed page.
+func (b *Book) TitledTable(name, title string, cols []Column) (*SheetWriter, error) {
 	if b.pending != nil {
 		return nil, fmt.Errorf("sheet %q: sheet %q is not flushed yet", name, b.pending.name)
 	}
@@ -320,54 +337,123 @@ func (b *Book) Table(name string, cols []Column) (*SheetWriter, error) {
 	if err := b.NewSheet(name); err != nil {
 		return nil, err
 	}
-	if err := b.printSetup(name); err != nil {
+	s := &SheetWriter{b: b, name: name, cols: cols, styles: make([]int, len(cols)), widths: make([]float64, len(cols)),
+		buf: make([]any, len(cols)), cells: make([]excelize.Cell, len(cols))}
+	total := 0.0
+	for i, c := range cols {
+		s.widths[i] = c.Width
+		if c.Width == 0 {
+			s.widths[i] = headerWidth(b.header(c))
+		}
+		total += s.widths[i]
+	}
+	head := 1
+	if title != "" {
+		head = 2
+	}
+	if err := b.printSetup(name, head, total); err != nil {
 		return nil, err
 	}
 	sw, err := b.f.NewStreamWriter(name)
 	if err != nil {
 		return nil, err
 	}
-	s := &SheetWriter{b: b, name: name, cols: cols, sw: sw, styles: make([]int, len(cols)), widths: make([]float64, len(cols)), row: 1,
-		buf: make([]any, len(cols)), cells: make([]excelize.Cell, len(cols))}
+	s.sw = sw
 	// The stream writer writes <col> elements in the order its list holds
 	// them and each width goes to the front of that list; spreadsheet
 	// programs want them ascending, so set the widths last column first.
 	for i := len(cols) - 1; i >= 0; i-- {
-		c := cols[i]
-		w := c.Width
-		if w == 0 {
-			w = max(float64(len([]rune(c.Header())))+2, MinColumnWidth)
-		}
-		if err := sw.SetColWidth(i+1, i+1, w); err != nil {
+		if err := sw.SetColWidth(i+1, i+1, s.widths[i]); err != nil {
 			return nil, err
 		}
-		s.widths[i] = w
 	}
 	for i, c := range cols {
-		if c.Format == FormatSig3 {
+		switch {
+		case c.Format == FormatSig3:
 			s.styles[i] = -1
 			continue
+		case c.Wrap:
+			s.styles[i], err = b.WrapFormatStyle(c.Format)
+		default:
+			s.styles[i], err = b.Style(c.Format)
 		}
-		if s.styles[i], err = b.Style(c.Format); err != nil {
+		if err != nil {
 			return nil, err
 		}
 	}
-	if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"}); err != nil {
+	top := fmt.Sprintf("A%d", head+1)
+	if err := sw.SetPanes(&excelize.Panes{Freeze: true, YSplit: head, TopLeftCell: top, ActivePane: "bottomLeft"}); err != nil {
 		return nil, err
+	}
+	if title != "" {
+		if err := s.title(title, total); err != nil {
+			return nil, err
+		}
 	}
 	hs, err := b.HeaderStyle()
 	if err != nil {
 		return nil, err
 	}
-	head := make([]any, len(cols))
+	row := make([]any, len(cols))
+	lines := minHeaderLines
 	for i, c := range cols {
-		head[i] = excelize.Cell{StyleID: hs, Value: c.Header()}
+		row[i] = excelize.Cell{StyleID: hs, Value: b.header(c)}
+		lines = max(lines, wrappedLines(strings.Fields(b.header(c)), int(s.widths[i])-headerPadding))
 	}
-	if err := sw.SetRow("A1", head, excelize.RowOpts{Height: 30}); err != nil {
+	if err := sw.SetRow(fmt.Sprintf("A%d", head), row, excelize.RowOpts{Height: math.Min(float64(lines)*lineHeight, MaxRowHeight)}); err != nil {
 		return nil, err
 	}
+	s.row, s.headRows = head, head
 	b.pending = s
 	return s, nil
+}
+
+// title writes a sheet's title line in row 1, merged across the columns
+// (total characters wide), as tall as its wrapped text.
+func (s *SheetWriter) title(title string, total float64) error {
+	ts, err := s.b.TitleStyle()
+	if err != nil {
+		return err
+	}
+	lines := wrappedLines(strings.Fields(title), max(int(total)-1, 1))
+	h := math.Min(float64(lines)*lineHeight+lineHeight/2, MaxRowHeight)
+	if err := s.sw.SetRow("A1", []any{excelize.Cell{StyleID: ts, Value: title}}, excelize.RowOpts{Height: h}); err != nil {
+		return err
+	}
+	if len(s.cols) == 1 {
+		return nil
+	}
+	last, err := excelize.CoordinatesToCellName(len(s.cols), 1)
+	if err != nil {
+		return err
+	}
+	return s.sw.MergeCell("A1", last)
+}
+
+// header returns the header cell text of a table sheet's column (see
+// Book.Words).
+func (b *Book) header(c Column) string {
+	if b.Words {
+		c.Name = words(c.Name)
+	}
+	return c.Header()
+}
+
+// words writes a column name in words: underscores become spaces, except
+// one between two digits, which is a decimal point (p2_5 is p2.5).
+func words(name string) string {
+	r := []rune(name)
+	digit := func(i int) bool { return i >= 0 && i < len(r) && r[i] >= '0' && r[i] <= '9' }
+	for i, c := range r {
+		if c != '_' {
+			continue
+		}
+		r[i] = ' '
+		if digit(i-1) && digit(i+1) {
+			r[i] = '.'
+		}
+	}
+	return string(r)
 }
 
 // Styled is a cell value with its own style (from Book.Style,
@@ -459,7 +545,7 @@ func (s *SheetWriter) lines(values []any) int {
 }
 
 // Rows returns the number of data rows written so far.
-func (s *SheetWriter) Rows() int { return s.row - 1 }
+func (s *SheetWriter) Rows() int { return s.row - s.headRows }
 
 // Flush ends the sheet.
 func (s *SheetWriter) Flush() error {
@@ -469,11 +555,10 @@ func (s *SheetWriter) Flush() error {
 	return s.sw.Flush()
 }
 
-// PictureWidth is the width, in pixels, pictures are shown at in a sheet.
-const PictureWidth = 960
-
 // Pictures adds a sheet holding each PNG under its caption, one below the
-// other, scaled to PictureWidth pixels wide.
+// other, each scaled down to fit PictureWidth × PictureHeight pixels.
+// Printed, every picture comes whole on a landscape page of its own under
+// its caption, with the page header and footer of the other sheets.
 func (b *Book) Pictures(sheet string, pics []Picture) error {
 	if err := b.NewSheet(sheet); err != nil {
 		return err
@@ -482,36 +567,62 @@ func (b *Book) Pictures(sheet string, pics []Picture) error {
 	if err != nil {
 		return err
 	}
-	if err := b.f.SetColWidth(sheet, "A", "A", 2); err != nil {
+	if err := b.f.SetColWidth(sheet, "A", "A", pictureColumn); err != nil {
 		return err
 	}
-	const rowPixels = 20 // default row height, 15 pt
-	row := 2
-	for _, p := range pics {
+	row := 1
+	for i, p := range pics {
 		cfg, format, err := image.DecodeConfig(bytes.NewReader(p.PNG))
-		if err != nil || format != "png" {
+		if err != nil || format != "png" || cfg.Width <= 0 || cfg.Height <= 0 {
 			return fmt.Errorf("picture %q: not a PNG image", p.Name)
 		}
-		scale := 1.0
-		if cfg.Width > PictureWidth {
-			scale = float64(PictureWidth) / float64(cfg.Width)
+		scale := PictureScale(cfg.Width, cfg.Height)
+		if i > 0 { // each picture starts a printed page
+			if err := b.f.InsertPageBreak(sheet, fmt.Sprintf("A%d", row)); err != nil {
+				return err
+			}
 		}
-		if err := b.f.SetCellStr(sheet, fmt.Sprintf("B%d", row), p.Name); err != nil {
+		caption := fmt.Sprintf("A%d", row)
+		if err := b.f.SetCellStr(sheet, caption, p.Name); err != nil {
 			return err
 		}
-		if err := b.f.SetCellStyle(sheet, fmt.Sprintf("B%d", row), fmt.Sprintf("B%d", row), ls); err != nil {
+		if err := b.f.SetCellStyle(sheet, caption, caption, ls); err != nil {
+			return err
+		}
+		if err := b.f.SetRowHeight(sheet, row, lineHeight*1.5); err != nil {
 			return err
 		}
 		row++
-		if err := b.f.AddPictureFromBytes(sheet, fmt.Sprintf("B%d", row), &excelize.Picture{
+		// One row as tall as the picture (in points, 3 per 4 pixels),
+		// so that every spreadsheet program pages it alike.
+		h := math.Min(math.Ceil(float64(cfg.Height)*scale*0.75)+pictureGap, MaxRowHeight)
+		if err := b.f.SetRowHeight(sheet, row, h); err != nil {
+			return err
+		}
+		if err := b.f.AddPictureFromBytes(sheet, fmt.Sprintf("A%d", row), &excelize.Picture{
 			Extension: ".png", File: p.PNG,
-			Format: &excelize.GraphicOptions{AltText: p.Name, ScaleX: scale, ScaleY: scale, LockAspectRatio: true},
+			Format: &excelize.GraphicOptions{AltText: p.Name, ScaleX: scale, ScaleY: scale, LockAspectRatio: true,
+				Positioning: "oneCell"},
 		}); err != nil {
 			return fmt.Errorf("picture %q: %w", p.Name, err)
 		}
-		row += int(math.Ceil(float64(cfg.Height)*scale/rowPixels)) + 2
+		row++
 	}
-	return nil
+	return b.picturePrintSetup(sheet, row-1)
+}
+
+// pictureGap is the room, in points, left below a picture in its row.
+const pictureGap = 4
+
+// pictureColumn is the width, in characters, of column A of a picture
+// sheet, which holds the captions and the pictures: a character more than
+// the widest picture, so that only column A prints.
+const pictureColumn = PictureWidth/7 + 1
+
+// PictureScale returns the factor (at most 1) that fits a picture of w ×
+// h pixels into PictureWidth × PictureHeight.
+func PictureScale(w, h int) float64 {
+	return math.Min(1, math.Min(float64(PictureWidth)/float64(w), float64(PictureHeight)/float64(h)))
 }
 
 // ErrOpenSheet is returned by Write while a table sheet is not flushed.

@@ -96,7 +96,11 @@ func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]an
 			return err
 		}
 	}
-	if err := b.printSetup(name); err != nil {
+	total := 0.0
+	for _, c := range cols {
+		total += c.Width
+	}
+	if err := b.printSetup(name, 1, total); err != nil {
 		return err
 	}
 	if err := f.SetRowHeight(name, 1, 30); err != nil {

@@ -1,0 +1,574 @@
+package batch_test
+
+import (
+	"archive/zip"
+	"bytes"
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/rating"
+	"wetline/survey/batch"
+	"wetline/survey/output"
+	"wetline/survey/results"
+)
+
+// trapezoid is an invented section: a trapezoidal channel 4 m wide at the
+// bed, 1 m deep, side slopes 1:1, bank marks at its top (elevation 1),
+// then flat overbanks to walls at elevation 2.
+const trapezoid = `station,elevation,n,mark
+0,2,0.05,
+1,1,0.05,
+5,1,0.03,bank
+6,0,0.03,
+10,0,0.03,
+11,1,0.05,bank
+15,1,0.05,
+16,2,,
+`
+
+// headerOnly is a survey table with a header and no rows, as the field
+// workbook's blank cross-section sheets are.
+const headerOnly = "station,elevation,n,mark\n"
+
+// writeFile writes a test input file.
+func writeFile(t *testing.T, path, text string) {
+	t.Helper()
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// writeBook writes a workbook with one sheet per {name, CSV text}.
+func writeBook(t *testing.T, path string, sheets ...[2]string) {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	for i, sh := range sheets {
+		if i == 0 {
+			f.SetSheetName("Sheet1", sh[0])
+		} else if _, err := f.NewSheet(sh[0]); err != nil {
+			t.Fatal(err)
+		}
+		recs, err := csv.NewReader(strings.NewReader(sh[1])).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for r, rec := range recs {
+			row := make([]any, len(rec))
+			for j, c := range rec {
+				row[j] = c
+			}
+			cell, _ := excelize.CoordinatesToCellName(1, r+1)
+			if err := f.SetSheetRow(sh[0], cell, &row); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// spoilSheet replaces the XML of sheet n (1-based) of a workbook with a
+// row whose number is not a number, so that reading that sheet fails and
+// the others still read.
+func spoilSheet(t *testing.T, path string, n int) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	zw := zip.NewWriter(&out)
+	for _, zf := range zr.File {
+		w, err := zw.Create(zf.Name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if zf.Name == fmt.Sprintf("xl/worksheets/sheet%d.xml", n) {
+			b = []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
+		}
+		if _, err := w.Write(b); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, out.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// jobWords writes jobs as "name→output" (with "!" when the job already
+// failed), for comparing listings.
+func jobWords(jobs []batch.Job) []string {
+	var out []string
+	for _, j := range jobs {
+		w := j.Name + "→" + j.Output
+		if j.Err != nil {
+			w += "!"
+		}
+		out = append(out, w)
+	}
+	return out
+}
+
+func TestList(t *testing.T) {
+	root := t.TempDir()
+	// A folder: CSV files and a workbook in name order; hidden files,
+	// sub-folders and other files left out; a workbook gives its survey
+	// sheets (blank ones too: they are skipped when rated), not its notes.
+	field := filepath.Join(root, "field")
+	writeFile(t, filepath.Join(field, "b.csv"), trapezoid)
+	writeFile(t, filepath.Join(field, "a.csv"), trapezoid)
+	writeFile(t, filepath.Join(field, ".hidden.csv"), trapezoid)
+	writeFile(t, filepath.Join(field, "readme.txt"), "notes")
+	writeFile(t, filepath.Join(field, "sub", "c.csv"), trapezoid)
+	writeBook(t, filepath.Join(field, "m.xlsx"), [2]string{"XS-1", trapezoid}, [2]string{"notes", "what,who\n"}, [2]string{"XS-2", headerOnly})
+	// Names alike in two folders, and a section named like the index.
+	again := filepath.Join(root, "again")
+	writeFile(t, filepath.Join(again, "a.csv"), trapezoid)
+	writeFile(t, filepath.Join(again, "index.csv"), trapezoid)
+	writeFile(t, filepath.Join(again, "A.csv"), trapezoid)
+	// A workbook with no survey sheet, and one whose second sheet cannot
+	// be read.
+	noSurvey := filepath.Join(root, "notes.xlsx")
+	writeBook(t, noSurvey, [2]string{"notes", "what,who\n"})
+	spoiled := filepath.Join(root, "spoiled.xlsx")
+	writeBook(t, spoiled, [2]string{"XS-1", trapezoid}, [2]string{"XS-2", trapezoid}, [2]string{"XS-3", trapezoid})
+	spoilSheet(t, spoiled, 2)
+	empty := filepath.Join(root, "empty")
+	if err := os.Mkdir(empty, 0o755); err != nil {
+		t.Fatal(err)
+	}
+
+	tests := []struct {
+		name  string
+		args  []string
+		sheet string
+		want  []string
+		err   error
+	}{
+		{"folder", []string{field}, "", []string{"a→a.csv", "b→b.csv", "XS-1→XS-1.csv", "XS-2→XS-2.csv"}, nil},
+		{"names alike", []string{filepath.Join(field, "a.csv"), again}, "",
+			// A.csv and a.csv clash on a file system that folds case.
+			[]string{"a→a.csv", "A (A-2)→A-2.csv", "a (a-3)→a-3.csv", "index (index-2)→index-2.csv"}, nil},
+		{"named sheet", []string{filepath.Join(field, "m.xlsx")}, "XS-2", []string{"XS-2→XS-2.csv"}, nil},
+		{"no survey sheet", []string{noSurvey}, "", []string{"notes→notes.csv!"}, nil},
+		{"a sheet that cannot be read fails alone", []string{spoiled}, "", []string{"XS-1→XS-1.csv", "XS-2→XS-2.csv!", "XS-3→XS-3.csv"}, nil},
+		{"missing file: fails when rated", []string{filepath.Join(root, "gone.csv")}, "", []string{"gone→gone.csv"}, nil},
+		{"empty folder", []string{empty}, "", nil, batch.ErrNoSurveys},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			jobs, files, err := batch.List(tc.args, tc.sheet, "csv")
+			if !errors.Is(err, tc.err) {
+				t.Fatalf("err %v, want %v", err, tc.err)
+			}
+			if err != nil {
+				return
+			}
+			if got := jobWords(jobs); !slices.Equal(got, tc.want) {
+				t.Errorf("jobs %q, want %q", got, tc.want)
+			}
+			for _, j := range jobs {
+				if !slices.Contains(files, j.Path) {
+					t.Errorf("input %s of job %s not among the files %q", j.Path, j.Name, files)
+				}
+			}
+		})
+	}
+
+	jobs, _, _ := batch.List([]string{noSurvey}, "", "csv")
+	if !errors.Is(jobs[0].Err, batch.ErrNoSurveySheet) {
+		t.Errorf("workbook without surveys: %v, want ErrNoSurveySheet", jobs[0].Err)
+	}
+	jobs, _, _ = batch.List([]string{spoiled}, "", "csv")
+	if e := jobs[1].Err; e == nil || !strings.Contains(e.Error(), "XS-2") {
+		t.Errorf("the spoiled sheet's error %v does not name it", e)
+	}
+}
+
+// rateOptions rates at 0.25 m steps from the bed to 2 m.
+func rateOptions() batch.Options {
+	return batch.Options{Stages: rating.StageSpec{From: 0, To: 2, FromSet: true, ToSet: true, Step: 0.25},
+		Rating: rating.Options{Slope: 0.001}, Workers: 2}
+}
+
+// Rate rates a survey, skips one with a header and no rows (CSV file or
+// sheet, stations or coordinates), and fails the others with their error.
+func TestRate(t *testing.T) {
+	dir := t.TempDir()
+	book := filepath.Join(dir, "field.xlsx")
+	writeBook(t, book, [2]string{"XS-1", trapezoid}, [2]string{"XS-2", headerOnly})
+	files := map[string]string{
+		"good.csv":   trapezoid,
+		"blank.csv":  headerOnly,
+		"coords.csv": "easting,northing,elevation\n",
+		"one.csv":    "station,elevation\n0,1\n",
+		"bad.csv":    strings.Replace(trapezoid, "6,0,", "6,x,", 1),
+		"nohead.csv": "a,b\n",
+	}
+	for name, text := range files {
+		writeFile(t, filepath.Join(dir, name), text)
+	}
+	tests := []struct {
+		job     batch.Job
+		rows    int    // rated rows; 0 when skipped or failed
+		skipped bool   // skipped with SkippedNote
+		err     string // in the error, "" when none
+	}{
+		{batch.Job{Path: filepath.Join(dir, "good.csv"), Name: "good"}, 9, false, ""},
+		{batch.Job{Path: book, Sheet: "XS-1", Name: "XS-1"}, 9, false, ""},
+		{batch.Job{Path: filepath.Join(dir, "blank.csv"), Name: "blank"}, 0, true, ""},
+		{batch.Job{Path: book, Sheet: "XS-2", Name: "XS-2"}, 0, true, ""},
+		{batch.Job{Path: filepath.Join(dir, "coords.csv"), Name: "coords"}, 0, true, ""},
+		// One point is a survey begun, not a blank sheet: it fails.
+		{batch.Job{Path: filepath.Join(dir, "one.csv"), Name: "one"}, 0, false, "at least two points"},
+		{batch.Job{Path: filepath.Join(dir, "bad.csv"), Name: "bad"}, 0, false, "bad.csv:5:2"},
+		{batch.Job{Path: filepath.Join(dir, "nohead.csv"), Name: "nohead"}, 0, false, "station"},
+		{batch.Job{Path: filepath.Join(dir, "gone.csv"), Name: "gone"}, 0, false, "gone.csv"},
+		{batch.Job{Path: book, Sheet: "XS-9", Name: "XS-9"}, 0, false, "no such sheet"},
+		{batch.Job{Path: book, Name: "listed", Err: errors.New("found bad while listing")}, 0, false, "found bad while listing"},
+	}
+	for _, tc := range tests {
+		t.Run(tc.job.Name, func(t *testing.T) {
+			r := batch.Rate(tc.job, rateOptions())
+			en := r.Entry
+			if en.Section != tc.job.Name || en.Source != tc.job.Source() {
+				t.Errorf("entry names %q from %q", en.Section, en.Source)
+			}
+			if en.Rows != tc.rows || len(r.Table.Rows) != tc.rows {
+				t.Errorf("%d rows (table %d), want %d", en.Rows, len(r.Table.Rows), tc.rows)
+			}
+			if (en.Skipped == batch.SkippedNote) != tc.skipped || (!tc.skipped && en.Skipped != "") {
+				t.Errorf("skipped %q, want skipped %v", en.Skipped, tc.skipped)
+			}
+			if (tc.err == "") != (en.Err == "") || !strings.Contains(en.Err, tc.err) {
+				t.Errorf("error %q, want one with %q", en.Err, tc.err)
+			}
+			if strings.Contains(en.Err, "\n") {
+				t.Errorf("error on several lines: %q", en.Err)
+			}
+		})
+	}
+}
+
+// The index entry of a rated section: its stage range, and its bankfull
+// stage (the lower bank top) and the discharge computed there, checked
+// against Manning's equation for the full trapezoid (Chow, 1959): area
+// A = (4 + 1)·1 = 5 m², wetted perimeter P = 4 + 2√2 m, and
+// Q = (1/n)·A·(A/P)^(2/3)·√S.
+func TestRateBankfull(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "xs.csv")
+	writeFile(t, path, trapezoid)
+	r := batch.Rate(batch.Job{Path: path, Name: "xs"}, rateOptions())
+	en := r.Entry
+	if en.Err != "" {
+		t.Fatal(en.Err)
+	}
+	a, p := 5.0, 4+2*math.Sqrt2
+	want := a * math.Pow(a/p, 2.0/3) * math.Sqrt(0.001) / 0.03
+	const closeQ = 1e-9 // relative: the same formula, summed in another order
+	if en.BankfullStage != 1 || math.Abs(en.BankfullDischarge-want) > closeQ*want {
+		t.Errorf("bankfull %g m, %g m3/s; want 1 m, %g m3/s", en.BankfullStage, en.BankfullDischarge, want)
+	}
+	if en.StageMin != 0 || en.StageMax != 2 {
+		t.Errorf("stages %g to %g, want 0 to 2", en.StageMin, en.StageMax)
+	}
+}
+
+func TestSummaryErr(t *testing.T) {
+	rated := results.IndexEntry{Section: "a"}
+	failed := results.IndexEntry{Section: "b", Err: "bad cell"}
+	skipped := results.IndexEntry{Section: "c", Skipped: batch.SkippedNote}
+	for _, tc := range []struct {
+		name    string
+		entries []results.IndexEntry
+		want    error
+		words   string
+	}{
+		{"all rated", []results.IndexEntry{rated, rated}, nil, ""},
+		{"some skipped", []results.IndexEntry{rated, skipped}, nil, ""},
+		{"one failed", []results.IndexEntry{rated, failed, skipped}, batch.ErrFailed, "1 of 3 sections failed (each is listed with its error above)"},
+		{"all skipped", []results.IndexEntry{skipped, skipped}, batch.ErrNothingRated, "2 skipped"},
+		{"none", nil, nil, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var s batch.Summary
+			for _, en := range tc.entries {
+				s.Entries = append(s.Entries, en)
+				switch {
+				case en.Err != "":
+					s.Failed++
+				case en.Skipped != "":
+					s.Skipped++
+				}
+			}
+			err := s.Err("above")
+			if !errors.Is(err, tc.want) || (tc.want == nil) != (err == nil) || (err != nil && !strings.Contains(err.Error(), tc.words)) {
+				t.Errorf("err %v, want %v with %q", err, tc.want, tc.words)
+			}
+		})
+	}
+}
+
+// readIndex reads an index table as rows of cells by column name.
+func readIndex(t *testing.T, path string) []map[string]string {
+	t.Helper()
+	f, err := os.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	recs, err := csv.NewReader(f).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Equal(recs[0], results.IndexColumns()) {
+		t.Fatalf("index header %q", recs[0])
+	}
+	var out []map[string]string
+	for _, rec := range recs[1:] {
+		m := map[string]string{}
+		for i, c := range rec {
+			m[recs[0][i]] = c
+		}
+		out = append(out, m)
+	}
+	return out
+}
+
+// folderInputs writes a folder of surveys: two rated, a blank field
+// workbook sheet beside a filled one, and a bad cell.
+func folderInputs(t *testing.T) string {
+	t.Helper()
+	in := filepath.Join(t.TempDir(), "in")
+	writeFile(t, filepath.Join(in, "a.csv"), trapezoid)
+	writeFile(t, filepath.Join(in, "b.csv"), strings.Replace(trapezoid, "6,0,", "6,x,", 1))
+	writeBook(t, filepath.Join(in, "field.xlsx"), [2]string{"XS-1", trapezoid}, [2]string{"XS-2", headerOnly})
+	return in
+}
+
+// Folder writes one table per rated section and an index listing every
+// section in input order (output, rows, bankfull, warnings with the
+// skipped note, errors), reaching the destination only at Commit.
+func TestFolder(t *testing.T) {
+	in := folderInputs(t)
+	jobs, inputs, err := batch.List([]string{in}, "", "csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := filepath.Join(t.TempDir(), "ratings")
+	files := output.New(inputs...)
+	sum, err := batch.Folder(context.Background(), files, out, "csv", jobs, rateOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Fatalf("the folder exists before Commit: %v", err)
+	}
+	if err := files.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if sum.Failed != 1 || sum.Skipped != 1 || len(sum.Entries) != 4 {
+		t.Errorf("summary: %d failed, %d skipped of %d", sum.Failed, sum.Skipped, len(sum.Entries))
+	}
+	if err := sum.Err("in the index"); !errors.Is(err, batch.ErrFailed) {
+		t.Errorf("err %v, want ErrFailed", err)
+	}
+	idx := readIndex(t, filepath.Join(out, batch.IndexFile))
+	want := []struct{ section, output, rows, warning, err string }{
+		{"a", "a.csv", "9", "", ""},
+		{"b", "", "0", "", "b.csv:5:2"},
+		{"XS-1", "XS-1.csv", "9", "", ""},
+		{"XS-2", "", "0", "skipped: " + batch.SkippedNote, ""},
+	}
+	if len(idx) != len(want) {
+		t.Fatalf("index has %d rows, want %d", len(idx), len(want))
+	}
+	for i, w := range want {
+		r := idx[i]
+		if r["section"] != w.section || r["output"] != w.output || r["rows"] != w.rows ||
+			!strings.HasPrefix(r["warnings"], w.warning) || (w.err == "") != (r["error"] == "") || !strings.Contains(r["error"], w.err) {
+			t.Errorf("index row %d: %v, want %+v", i+1, r, w)
+		}
+	}
+	if idx[0]["bankfull_stage"] != "1" || idx[0]["bankfull_discharge"] == "" {
+		t.Errorf("bankfull of a: %q, %q", idx[0]["bankfull_stage"], idx[0]["bankfull_discharge"])
+	}
+	ents, err := os.ReadDir(out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, e := range ents {
+		names = append(names, e.Name())
+	}
+	if !slices.Equal(names, []string{"XS-1.csv", "a.csv", batch.IndexFile}) {
+		t.Errorf("folder holds %q", names)
+	}
+}
+
+// The folder swap: an earlier batch output (holding an index) is replaced
+// whole at Commit, a run discarded leaves it as it was, and a folder that
+// is not a batch output is refused before anything is rated.
+func TestFolderSwap(t *testing.T) {
+	in := folderInputs(t)
+	jobs, inputs, err := batch.List([]string{filepath.Join(in, "a.csv")}, "", "json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	base := t.TempDir()
+	earlier := filepath.Join(base, "earlier")
+	writeFile(t, filepath.Join(earlier, batch.IndexFile), "section\nold\n")
+	writeFile(t, filepath.Join(earlier, "old.csv"), "stage,discharge\n")
+	foreign := filepath.Join(base, "foreign")
+	writeFile(t, filepath.Join(foreign, "notes.txt"), "keep me")
+
+	// Discarded: the earlier output stays whole.
+	files := output.New(inputs...)
+	if _, err := batch.Folder(context.Background(), files, earlier, "json", jobs, rateOptions()); err != nil {
+		t.Fatal(err)
+	}
+	files.Discard()
+	if _, err := os.Stat(filepath.Join(earlier, "old.csv")); err != nil {
+		t.Errorf("a discarded run changed the earlier output: %v", err)
+	}
+	// Committed: replaced whole.
+	files = output.New(inputs...)
+	if _, err := batch.Folder(context.Background(), files, earlier, "json", jobs, rateOptions()); err != nil {
+		t.Fatal(err)
+	}
+	if err := files.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat(filepath.Join(earlier, "old.csv")); !os.IsNotExist(err) {
+		t.Errorf("old.csv survived the swap: %v", err)
+	}
+	if idx := readIndex(t, filepath.Join(earlier, batch.IndexFile)); len(idx) != 1 || idx[0]["output"] != "a.json" {
+		t.Errorf("index after the swap %v", idx)
+	}
+	if b, err := os.ReadFile(filepath.Join(earlier, "a.json")); err != nil || !bytes.HasPrefix(b, []byte("{")) {
+		t.Errorf("a.json: %v", err)
+	}
+	// Refused: not a batch output.
+	files = output.New(inputs...)
+	rated := 0
+	opt := rateOptions()
+	opt.Progress = func(int, int) { rated++ }
+	if _, err := batch.Folder(context.Background(), files, foreign, "csv", jobs, opt); !errors.Is(err, output.ErrForeignFolder) {
+		t.Errorf("err %v, want ErrForeignFolder", err)
+	}
+	files.Discard()
+	if rated != 0 {
+		t.Errorf("%d sections rated into a refused folder", rated)
+	}
+	if b, _ := os.ReadFile(filepath.Join(foreign, "notes.txt")); string(b) != "keep me" {
+		t.Errorf("the foreign folder changed")
+	}
+	// The input folder itself is refused: it would be replaced whole.
+	files = output.New(inputs...)
+	if _, err := batch.Folder(context.Background(), files, in, "csv", jobs, rateOptions()); !errors.Is(err, output.ErrInput) {
+		t.Errorf("err %v, want ErrInput", err)
+	}
+	files.Discard()
+}
+
+// Long writes the rows of rated sections only, section by section in
+// input order, and lists every section in its summary.
+func TestLong(t *testing.T) {
+	in := folderInputs(t)
+	jobs, _, err := batch.List([]string{in}, "", "csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	sum, err := batch.Long(context.Background(), &buf, jobs, rateOptions())
+	if err != nil {
+		t.Fatal(err)
+	}
+	recs, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var order []string
+	for _, r := range recs[1:] {
+		if len(order) == 0 || order[len(order)-1] != r[0] {
+			order = append(order, r[0])
+		}
+	}
+	if !slices.Equal(order, []string{"a", "XS-1"}) || len(recs) != 1+2*9 {
+		t.Errorf("sections %q in %d lines, want a and XS-1 in 19", order, len(recs))
+	}
+	if sum.Failed != 1 || sum.Skipped != 1 || len(sum.Entries) != 4 {
+		t.Errorf("summary: %d failed, %d skipped of %d", sum.Failed, sum.Skipped, len(sum.Entries))
+	}
+}
+
+// Run emits results in input order whatever the number of workers, and
+// stops when emit fails.
+func TestRunOrderAndStop(t *testing.T) {
+	dir := t.TempDir()
+	var jobs []batch.Job
+	for i := range 12 {
+		p := filepath.Join(dir, fmt.Sprintf("s%02d.csv", i))
+		writeFile(t, p, trapezoid)
+		jobs = append(jobs, batch.Job{Path: p, Name: fmt.Sprintf("s%02d", i)})
+	}
+	for _, workers := range []int{1, 3, 8} {
+		opt := rateOptions()
+		opt.Workers = workers
+		var got []string
+		err := batch.Run(context.Background(), jobs, opt, func(i int, r batch.Result) error {
+			got = append(got, r.Entry.Section)
+			return nil
+		})
+		if err != nil || len(got) != len(jobs) || !slices.IsSorted(got) {
+			t.Errorf("%d workers: %q (%v)", workers, got, err)
+		}
+	}
+	stop := errors.New("stop")
+	n := 0
+	err := batch.Run(context.Background(), jobs, rateOptions(), func(i int, r batch.Result) error {
+		if n++; n == 3 {
+			return stop
+		}
+		return nil
+	})
+	if !errors.Is(err, stop) || n != 3 {
+		t.Errorf("after emit failed: %v, %d emitted", err, n)
+	}
+}
