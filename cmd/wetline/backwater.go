@@ -221,9 +221,6 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
-		return usagef("backwater: an xlsx workbook needs -o FILE.xlsx")
-	}
 	opt, err := f.options(fs)
 	if err != nil {
 		return err
@@ -259,17 +256,13 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
 	}
-	figs := rep.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	write := map[string]func(io.Writer, reach.BackwaterReport) error{
 		"text": results.WriteBackwaterText, "csv": results.WriteBackwaterCSV,
 		"json": results.WriteBackwaterJSON, "xlsx": results.WriteBackwaterWorkbook,
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: figs,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) }})
 }
 

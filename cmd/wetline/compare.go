@@ -75,9 +75,6 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
-		return usagef("compare: an xlsx workbook needs -o FILE.xlsx")
-	}
 	if err := fs.positive("step"); err != nil {
 		return err
 	}
@@ -199,9 +196,6 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 
 // deliver writes a comparison report and its figures.
 func (f *compareFlags) deliver(e *env, format string, inputs, warnings []string, figs []rating.Figure, write func(io.Writer) error, what string, rows int) error {
-	if f.plots == "" {
-		figs = nil
-	}
 	return e.deliver(delivery{output: f.output, inputs: inputs, write: write,
 		inline: format == "text" || format == "json", warnings: warnings, plots: f.plots, figs: figs,
 		summary: func(w io.Writer) error { return results.WriteComparisonSummary(w, what, rows, warnings, f.output) }})

@@ -113,9 +113,6 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && f.output == "" {
-		return usagef("fit: an xlsx workbook needs -o FILE.xlsx")
-	}
 	opt.Lookup = format == "xlsx"
 	rep, err := f.analyze(fs.Arg(0), opt)
 	if err != nil {
@@ -129,16 +126,12 @@ func runFit(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
 	}
-	figs := rep.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	write := map[string]func(io.Writer, *gauged.Report) error{
 		"text": results.WriteFitText, "json": results.WriteFitJSON, "csv": results.WriteFitCSV, "xlsx": results.WriteFitWorkbook,
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: figs,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteFitSummary(w, rep, f.output) }})
 }
 

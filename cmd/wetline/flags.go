@@ -170,6 +170,18 @@ func (n *numbers) Type() string { return "numbers" }
 // file's extension (.txt is text), else the first allowed one for
 // standard output. An extension the command cannot write is refused.
 func outputFormat(cmd, flag, output string, allowed ...string) (string, error) {
+	f, err := chooseFormat(cmd, flag, output, allowed)
+	if err == nil && f == "xlsx" && output == "" {
+		// A workbook is no text for a terminal: it goes to a file, or to
+		// standard output only when asked for with -o -.
+		return "", usagef("%s: an xlsx workbook needs -o FILE.xlsx (or -o - for standard output)", cmd)
+	}
+	return f, err
+}
+
+// chooseFormat picks the format of --format, else of the -o extension,
+// else the first allowed.
+func chooseFormat(cmd, flag, output string, allowed []string) (string, error) {
 	f := strings.ToLower(flag)
 	if f != "" {
 		for _, a := range allowed {

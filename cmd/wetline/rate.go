@@ -108,9 +108,6 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && f.output == "" {
-		return usagef("rate: an xlsx workbook needs -o FILE.xlsx")
-	}
 	rep, err := f.rate(fs, fs.Arg(0), format == "xlsx")
 	if err != nil {
 		return err
@@ -120,17 +117,13 @@ func runRate(ctx context.Context, e *env, args []string) error {
 			return err
 		}
 	}
-	figs := rep.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	write := map[string]func(io.Writer, rating.RatingReport) error{
 		"csv": results.WriteRatingCSV, "json": results.WriteRatingJSON,
 		"text": results.WriteRatingText, "xlsx": results.WriteRatingWorkbook,
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: figs,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteRatingSummary(w, rep, f.output) }})
 }
 

@@ -321,9 +321,6 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
-		return usagef("record: an xlsx workbook needs -o FILE.xlsx")
-	}
 	tables := f.tables()
 	if format == "csv" && tables == results.UnitTable|results.DailyTable {
 		return usagef("record: %v: give --unit or --daily, or write JSON or a workbook for both", results.ErrOneTable)
@@ -346,17 +343,13 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 		}
 		res.Figures, res.Warnings = figs, append(res.Warnings, w...)
 	}
-	figs := res.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	write := map[string]func(io.Writer, *record.Result, results.RecordTables) error{
 		"text": results.WriteRecordText, "json": results.WriteRecordJSON, "csv": results.WriteRecordCSV, "xlsx": results.WriteRecordWorkbook,
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: res.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, res, tables) },
 		inline: format == "text" || format == "json", warnings: append(append([]string(nil), res.Warnings...), "provisional: "+record.ProvisionalNote),
-		plots: f.plots, figs: figs,
+		plots: f.plots, figs: res.Figures,
 		summary: func(w io.Writer) error { return results.WriteRecordSummary(w, res, f.output) }})
 }
 

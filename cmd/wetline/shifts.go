@@ -55,9 +55,6 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && (f.output == "" || f.output == "-") {
-		return usagef("shifts: an xlsx workbook needs -o FILE.xlsx")
-	}
 	if f.visitGap < 0 {
 		return usagef("shifts: --visit-gap %v: want a duration of zero or more", f.visitGap)
 	}
@@ -79,10 +76,6 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 		}
 		c.Figures, c.Warnings = figs, append(c.Warnings, w...)
 	}
-	figs := c.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	if f.proposed != "" {
 		e.files.Protect(c.Provenance.Inputs...)
 		if err := e.files.Check(f.proposed); err != nil {
@@ -97,7 +90,7 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	}[format]
 	err = e.deliver(delivery{output: f.output, inputs: c.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, c) },
-		inline: format == "text" || format == "json", warnings: c.Warnings, plots: f.plots, figs: figs,
+		inline: format == "text" || format == "json", warnings: c.Warnings, plots: f.plots, figs: c.Figures,
 		summary: func(w io.Writer) error { return results.WriteShiftsSummary(w, c, f.output) }})
 	if err == nil && f.proposed != "" {
 		_, err = fmt.Fprintf(e.stderr, "wrote %s: the proposed shift diagrams, to edit and give back with --shifts\n", f.proposed)

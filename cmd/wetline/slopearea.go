@@ -121,9 +121,6 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	if format == "xlsx" && f.output == "" {
-		return usagef("slopearea: an xlsx workbook needs -o FILE.xlsx")
-	}
 	opt, err := f.options(fs)
 	if err != nil {
 		return err
@@ -150,16 +147,12 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 		}
 		rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
 	}
-	figs := rep.Figures
-	if f.plots == "" {
-		figs = nil
-	}
 	write := map[string]func(io.Writer, reach.Report) error{
 		"text": results.WriteSlopeAreaText, "json": results.WriteSlopeAreaJSON, "xlsx": results.WriteSlopeAreaWorkbook,
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: true, warnings: rep.Warnings, plots: f.plots, figs: figs,
+		inline: true, warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteSlopeAreaSummary(w, rep, f.output) }})
 }
 
