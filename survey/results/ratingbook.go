@@ -379,12 +379,12 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 		{"lower end of the section", t.Top, u.Length()},
 	}
 	if l, r, ok := subdivide.ChannelLimits(t.Subsections); ok {
-		items = append(items, SummaryItem{"main channel between banks", fmt.Sprintf("stations %g to %g", l, r), u.Length()})
+		items = append(items, SummaryItem{"main channel between banks", fmt.Sprintf("stations %s to %s", FormatLength(l), FormatLength(r)), u.Length()})
 	} else {
 		items = append(items, SummaryItem{"main channel between banks", "no banks: the whole section is channel", ""})
 	}
 	for i, sub := range t.Subsections {
-		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %g to %g)", i+1, sub.Region, sub.From, sub.To), sub.N, ""})
+		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %s to %s)", i+1, sub.Region, FormatLength(sub.From), FormatLength(sub.To)), sub.N, ""})
 	}
 	if lo, hi, ok := t.Extremes(); ok {
 		q, err := b.Sig3(hi.Discharge)
