@@ -1,10 +1,13 @@
 package main
 
 import (
+	"fmt"
 	"path/filepath"
 	"strings"
 	"testing"
 	"wetline/survey"
+
+	"github.com/xuri/excelize/v2"
 )
 
 // Every command that writes a report takes --site and names the site in
@@ -62,6 +65,45 @@ func TestTemplateSite(t *testing.T) {
 		}
 		if got := tab.Site().Name; got != "Heron Weir gauge" {
 			t.Errorf("%s: site %q", sheet, got)
+		}
+	}
+}
+
+// Every results workbook names the site on its summary sheet.
+func TestSiteInWorkbooks(t *testing.T) {
+	t.Parallel()
+	const site = "Heron Weir gauge"
+	dir := t.TempDir()
+	for i, args := range [][]string{
+		{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101,102"},
+		{"fit", fitDemoGaugings, "--method", "lsq"},
+		{"slopearea", "demodata/reach-brindle.csv", "--draws", "200"},
+		{"backwater", bwPlain(t), "--discharges", "12", "--boundary", "critical"},
+		shiftsArgs(),
+		recordArgs(),
+		{"compare", recRatingA, recRatingB, "--zero-flow", "0.2"},
+		{"compare", recSectionA, recSectionB, "--step", "0.5"},
+	} {
+		book := filepath.Join(dir, fmt.Sprintf("book-%d.xlsx", i))
+		args = append(args, "--site", site, "-o", book)
+		if _, errs, code := runCLI(t, args...); code != 0 {
+			t.Fatalf("%s: exit %d: %s", strings.Join(args, " "), code, errs)
+		}
+		f, err := excelize.OpenFile(book)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rows, err := f.GetRows("summary")
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		found := false
+		for _, r := range rows {
+			found = found || strings.Contains(strings.Join(r, " "), site)
+		}
+		if !found {
+			t.Errorf("%s: the summary sheet does not name the site", args[0])
 		}
 	}
 }

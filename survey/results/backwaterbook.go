@@ -69,6 +69,7 @@ func writeBWSummary(b *workbook.Book, rep reach.BackwaterReport) error {
 	items := []SummaryItem{
 		{"reach table", bwReachName(rep), ""},
 		{"program", programName(rep.Provenance), ""},
+		{"site", rep.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, u.Length(), u.Discharge()), ""},
 		{"method", "standard step method between adjacent sections (Davidian, 1984, USGS TWRI 3-A15; Chow, 1959, ch. 10)", ""},
 		{"friction loss", "Q²·L/(Ku·Kd), the geometric mean of the two conveyances; L weighted by conveyance where flow lengths are given", ""},

@@ -141,6 +141,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"rating B", ratingWords(ts[1].rating, u), ""},
 		{"read from", joinInputs(c.Provenance.Inputs), ""},
 		{"program", programName(c.Provenance), ""},
+		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
 		{"common range of stage", fmt.Sprintf("%s to %s (neither table extrapolated)", FormatLength(c.From), FormatLength(c.To)), L},
 		{"largest difference", fmt.Sprintf("%s %% at %s", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage)), L},
@@ -284,6 +285,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 		{"survey B", c.B, ""},
 		{"read from", joinInputs(c.Provenance.Inputs), ""},
 		{"program", programName(c.Provenance), ""},
+		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: stage in %s, area in %s, conveyance in %s", u, L, A, K), ""},
 		{"method", "area, wetted perimeter, top width and Manning conveyance of each survey at each stage (Chow, 1959); differences B − A", ""},
 	}

@@ -143,6 +143,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"stage record", res.Name, ""},
 		{"read from", joinInputs(res.Provenance.Inputs), ""},
 		{"program", programName(res.Provenance), ""},
+		{"site", res.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"readings", len(res.Units), ""},
 		{"days", len(res.Daily), ""},

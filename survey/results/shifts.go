@@ -259,6 +259,7 @@ func writeShiftsSummary(b *workbook.Book, c *gauged.ShiftCheck, ps []periodInfo,
 	items := []SummaryItem{
 		{"read from", joinInputs(c.Provenance.Inputs), ""},
 		{"program", programName(c.Provenance), ""},
+		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"times in", zoneName(z), ""},
 		{"method", "measured shift s with Q_rating(h + s) = Q; diagrams prorated in time between visits (Kennedy, 1983, USGS TWRI 3-A13)", ""},

@@ -73,6 +73,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 	items := []SummaryItem{
 		{"reach table", saReachName(rep), ""},
 		{"program", programName(rep.Provenance), ""},
+		{"site", rep.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), ""},
 		{"peak discharge", num(workbook.FormatSig3, r.Discharge), Q},
 	}
