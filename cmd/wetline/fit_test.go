@@ -60,7 +60,7 @@ func TestFitGolden(t *testing.T) {
 	}
 }
 
-// The JSON report holds the contract of issue 6: segments with from_stage,
+// The JSON report holds its documented contract: segments with from_stage,
 // to_stage, coefficient, zero_flow_stage and exponent; the standard error
 // in percent; gaugings with stage, discharge, fitted, departure_percent and
 // shift; table rows with stage, discharge and extrapolated; the datum and
