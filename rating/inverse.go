@@ -164,7 +164,7 @@ func findRoots(f stageFunc, lo, hi float64) ([]Root, error) {
 		}
 		d1, d2 := p.v-pts[i-1].v, pts[i+1].v-p.v
 		if d1*d2 < 0 {
-			h, v, err := golden(f, pts[i-1].h, pts[i+1].h, d1 > 0)
+			h, v, err := GoldenSection(f, pts[i-1].h, pts[i+1].h, d1 > 0)
 			if err != nil {
 				return nil, err
 			}
@@ -238,11 +238,15 @@ func bisect(f stageFunc, a, b, fa, fb float64) (h, left, right float64, err erro
 	return a, fa, fb, nil
 }
 
-// golden finds the maximum (or minimum) of f on [a, b] by golden-section
-// search to the resolution of float64.
+// GoldenSection finds the maximum (max true) or the minimum of f on
+// [a, b] by golden-section search, to the resolution of float64: the
+// stage h (length unit) and f there. f must be unimodal on [a, b]; its
+// first error ends the search and is returned.
 //
-// Reference: Press et al. (2007), Numerical Recipes, 3rd ed., section 10.2.
-func golden(f stageFunc, a, b float64, max bool) (h, v float64, err error) {
+// References:
+//
+//	Press, W.H., and others (2007), Numerical Recipes, 3rd ed., section 10.2.
+func GoldenSection(f func(h float64) (float64, error), a, b float64, max bool) (h, v float64, err error) {
 	sign := 1.0
 	if max {
 		sign = -1
@@ -494,7 +498,7 @@ func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoin
 		prev, hs = append(prev, v), append(hs, h)
 		if len(prev) == 3 {
 			if prev[1] <= prev[0] && prev[1] <= prev[2] {
-				hm, vm, err := golden(e, hs[0], hs[2], false)
+				hm, vm, err := GoldenSection(e, hs[0], hs[2], false)
 				if err != nil {
 					return best, err
 				}
@@ -559,7 +563,7 @@ func PeakDischarge(g subdivide.Geometry, opt Options) (stage, q float64, err err
 		}
 	}
 	a, b := math.Max(lo, bestH-step), math.Min(hi, bestH+step)
-	h, v, err := golden(f, a, b, true)
+	h, v, err := GoldenSection(f, a, b, true)
 	if err != nil {
 		return 0, 0, err
 	}

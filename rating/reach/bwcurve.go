@@ -147,7 +147,7 @@ func (c *bwCurve) refineTurns(start int) error {
 		if i > 0 && i+1 < len(ks) {
 			d1, d2 := k.v-ks[i-1].v, ks[i+1].v-k.v
 			if d1*d2 < 0 {
-				h, v, err := goldenMax(func(h float64) (float64, error) { return c.value(k.band, h, &st) },
+				h, v, err := rating.GoldenSection(func(h float64) (float64, error) { return c.value(k.band, h, &st) },
 					ks[i-1].h, ks[i+1].h, d1 > 0)
 				if err != nil {
 					return err
@@ -345,52 +345,4 @@ func brentRoot(f func(float64) (float64, error), a, b, fa, fb, tol float64) (flo
 		}
 	}
 	return b, nil
-}
-
-// goldenMax finds the maximum (max true) or minimum of f on [a, b] by
-// golden-section search to the resolution of float64.
-//
-// Reference: Press, W.H., and others, 2007, Numerical Recipes, 3rd ed.,
-// section 10.2.
-func goldenMax(f func(float64) (float64, error), a, b float64, max bool) (h, v float64, err error) {
-	sign := -1.0
-	if max {
-		sign = 1
-	}
-	g := func(x float64) (float64, error) {
-		y, err := f(x)
-		return -sign * y, err
-	}
-	const r = 0.6180339887498949 // (√5 − 1)/2
-	c, d := b-r*(b-a), a+r*(b-a)
-	fc, err := g(c)
-	if err != nil {
-		return 0, 0, err
-	}
-	fd, err := g(d)
-	if err != nil {
-		return 0, 0, err
-	}
-	for i := 0; i < 200 && c < d; i++ {
-		if fc < fd {
-			b, d, fd = d, c, fc
-			c = b - r*(b-a)
-			if fc, err = g(c); err != nil {
-				return 0, 0, err
-			}
-		} else {
-			a, c, fc = c, d, fd
-			d = a + r*(b-a)
-			if fd, err = g(d); err != nil {
-				return 0, 0, err
-			}
-		}
-		if !(b-a > 0) || b-a <= 4*math.Abs(a+b)*0x1p-52 {
-			break
-		}
-	}
-	if fc < fd {
-		return c, -sign * fc, nil
-	}
-	return d, -sign * fd, nil
 }
