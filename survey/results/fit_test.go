@@ -108,7 +108,7 @@ func TestWriteFitJSONKeys(t *testing.T) {
 		if err := results.WriteFitJSON(&buf, rep); err != nil {
 			t.Fatal(err)
 		}
-		keys := topKeys(t, buf.Bytes())
+		keys := jsonKeys(t, buf.Bytes())
 		last := -1
 		for _, k := range legacy {
 			i := slices.Index(keys, k)
@@ -150,28 +150,6 @@ func TestWriteFitJSONKeys(t *testing.T) {
 			need(t, post["parameters"].([]any)[0].(map[string]any), "name", "mean", "sd", "p2_5", "p50", "p97_5", "prior_mean", "prior_sd")
 		}
 	}
-}
-
-// topKeys returns the keys of a JSON object in the order written.
-func topKeys(t *testing.T, data []byte) []string {
-	t.Helper()
-	dec := json.NewDecoder(bytes.NewReader(data))
-	if tok, err := dec.Token(); err != nil || tok != json.Delim('{') {
-		t.Fatalf("not an object: %v %v", tok, err)
-	}
-	var keys []string
-	for dec.More() {
-		tok, err := dec.Token()
-		if err != nil {
-			t.Fatal(err)
-		}
-		keys = append(keys, tok.(string))
-		var skip json.RawMessage
-		if err := dec.Decode(&skip); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return keys
 }
 
 // need fails for every key missing from obj.
