@@ -30,8 +30,6 @@ type Comparison struct {
 // the departure lies outside its quality band (see Quality.Outside).
 func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 	cmp := Comparison{Datum: c.Datum, Residuals: make([]Residual, len(gs))}
-	var sum float64
-	n := 0
 	var errs []error
 	for i, g := range gs {
 		q, err := c.Discharge(g.Stage)
@@ -45,13 +43,22 @@ func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 		if g.Stage > c.Top() {
 			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is above the lower end of the section (%g on the gauge)", g.label(), g.Stage, c.Top()))
 		}
-		r := residualOf(g, q, func(q float64) float64 {
-			h, err := c.Stage(q)
-			if err != nil {
-				return math.NaN()
-			}
-			return h
-		})
+		cmp.Residuals[i] = residualOf(g, q, stageOrNaN(c.Stage))
+	}
+	if len(errs) > 0 {
+		return cmp, errors.Join(errs...)
+	}
+	cmp.summarise()
+	return cmp, nil
+}
+
+// summarise counts the residuals outside their quality band and sets the
+// mean log departure, in percent, over the residuals compared (NaN when
+// none was).
+func (cmp *Comparison) summarise() {
+	var sum float64
+	n := 0
+	for _, r := range cmp.Residuals {
 		if r.OutsideBand {
 			cmp.Outside++
 		}
@@ -59,14 +66,21 @@ func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 			sum += r.LogResidual
 			n++
 		}
-		cmp.Residuals[i] = r
-	}
-	if len(errs) > 0 {
-		return cmp, errors.Join(errs...)
 	}
 	cmp.MeanLogDeparturePercent = math.NaN()
 	if n > 0 {
 		cmp.MeanLogDeparturePercent = 100 * (math.Exp(sum/float64(n)) - 1)
 	}
-	return cmp, nil
+}
+
+// stageOrNaN turns an inverse rating into one that gives NaN where it
+// has no stage.
+func stageOrNaN(stage func(q float64) (float64, error)) func(float64) float64 {
+	return func(q float64) float64 {
+		h, err := stage(q)
+		if err != nil {
+			return math.NaN()
+		}
+		return h
+	}
 }

@@ -120,8 +120,6 @@ func gh(v float64) string {
 // (NaN, with a warning naming it).
 func CompareTable(gs []Gauging, t *TableRating) Comparison {
 	cmp := Comparison{Datum: math.NaN(), Residuals: make([]Residual, len(gs))}
-	var sum float64
-	n := 0
 	for i, g := range gs {
 		q, err := tableDischarge(t, g.Stage)
 		if err != nil {
@@ -129,26 +127,9 @@ func CompareTable(gs []Gauging, t *TableRating) Comparison {
 			cmp.Residuals[i] = Residual{Gauging: g, Fitted: math.NaN(), DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
 			continue
 		}
-		r := residualOf(g, q, func(q float64) float64 {
-			h, err := t.Stage(q)
-			if err != nil {
-				return math.NaN()
-			}
-			return h
-		})
-		if r.OutsideBand {
-			cmp.Outside++
-		}
-		if !math.IsNaN(r.LogResidual) {
-			sum += r.LogResidual
-			n++
-		}
-		cmp.Residuals[i] = r
+		cmp.Residuals[i] = residualOf(g, q, stageOrNaN(t.Stage))
 	}
-	cmp.MeanLogDeparturePercent = math.NaN()
-	if n > 0 {
-		cmp.MeanLogDeparturePercent = 100 * (math.Exp(sum/float64(n)) - 1)
-	}
+	cmp.summarise()
 	return cmp
 }
 
