@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -250,7 +249,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 
 	line("")
 	line("Hydraulics at %s at each rating stage (each row at its own friction slope (Q/K)²)", r.Rating.Section)
-	bwTextHydraulics(&t.b, rep.Table)
+	writeMainColumnsText(&t.b, rep.Table)
 
 	if v := rep.Verification; v != nil {
 		line("")
@@ -329,42 +328,6 @@ func bwTextProfile(line func(string, ...any), table func(string, [][]string), p 
 	table("section\tdistance\tthalweg\twater surface\tenergy grade\tvel. head\tfroude\tspread\tlength\tfriction loss\teddy loss\tflags", rows)
 	for _, w := range p.Warnings {
 		line("    note: %s", w)
-	}
-}
-
-// bwTextHydraulics writes the rating table's main columns in the layout of
-// WriteRatingText.
-func bwTextHydraulics(b *strings.Builder, t rating.Table) {
-	u := t.Units
-	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
-	units := []string{u.Length(), u.Length(), u.Area(), u.Length(), u.Length(), u.Length(), u.Conveyance(), u.Discharge(), u.Velocity(), "", ""}
-	for i := range head {
-		fmt.Fprintf(b, "%11s", head[i])
-	}
-	b.WriteString("  flags\n")
-	for i := range units {
-		fmt.Fprintf(b, "%11s", units[i])
-	}
-	b.WriteByte('\n')
-	for _, r := range t.Rows {
-		for i, v := range mainValues(r) {
-			s := "-"
-			switch {
-			case math.IsNaN(v) || math.IsInf(v, 0):
-			case i <= 1 || i >= 9:
-				s = strconv.FormatFloat(v, 'f', 3, 64)
-			default:
-				s = sig(v, 4)
-				if f, err := strconv.ParseFloat(s, 64); err == nil && math.Abs(f) >= 1 && math.Abs(f) < 1e7 {
-					s = strconv.FormatFloat(f, 'f', -1, 64)
-				}
-			}
-			fmt.Fprintf(b, "%11s", s)
-		}
-		if len(r.Flags) > 0 {
-			fmt.Fprintf(b, "  %s", strings.Join(r.Flags, " "))
-		}
-		b.WriteByte('\n')
 	}
 }
 

@@ -175,6 +175,48 @@ func ratingJSONRow(r rating.Row) jsonRow {
 	return jr
 }
 
+// writeMainColumnsText writes the main columns of a rating table
+// (RatingColumns()) aligned for a console, with their units under the
+// names and each row's flags at its end: depths and stages, α and the
+// Froude number to three decimals, the rest to four significant digits.
+func writeMainColumnsText(w io.Writer, t rating.Table) {
+	u := t.Units
+	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
+	units := []string{u.Length(), u.Length(), u.Area(), u.Length(), u.Length(), u.Length(), u.Conveyance(), u.Discharge(), u.Velocity(), "", ""}
+	var b strings.Builder
+	for i := range head {
+		fmt.Fprintf(&b, "%11s", head[i])
+	}
+	b.WriteString("  flags\n")
+	for i := range units {
+		fmt.Fprintf(&b, "%11s", units[i])
+	}
+	b.WriteByte('\n')
+	io.WriteString(w, b.String())
+	for _, r := range t.Rows {
+		b.Reset()
+		for i, v := range mainValues(r) {
+			s := "-"
+			switch {
+			case math.IsNaN(v) || math.IsInf(v, 0):
+			case i <= 1 || i >= 9:
+				s = strconv.FormatFloat(v, 'f', 3, 64)
+			default:
+				s = strconv.FormatFloat(v, 'g', 4, 64)
+				if f, err := strconv.ParseFloat(s, 64); err == nil && math.Abs(f) >= 1 && math.Abs(f) < 1e7 {
+					s = strconv.FormatFloat(f, 'f', -1, 64)
+				}
+			}
+			fmt.Fprintf(&b, "%11s", s)
+		}
+		if len(r.Flags) > 0 {
+			fmt.Fprintf(&b, "  %s", strings.Join(r.Flags, " "))
+		}
+		b.WriteByte('\n')
+		io.WriteString(w, b.String())
+	}
+}
+
 // WriteRatingText writes a rating report as aligned columns for reading
 // on a console: a title, the units, the main columns, the warnings and the
 // caution.
@@ -191,38 +233,7 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 		fmt.Fprintf(bw, "Stages are gauge heights: elevation = gauge height + %s %s\n", FormatFloat(t.Datum), u.Length())
 	}
 	bw.WriteByte('\n')
-	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
-	units := []string{u.Length(), u.Length(), u.Area(), u.Length(), u.Length(), u.Length(), u.Conveyance(), u.Discharge(), u.Velocity(), "", ""}
-	for i := range head {
-		fmt.Fprintf(bw, "%11s", head[i])
-	}
-	bw.WriteString("  flags\n")
-	for i := range units {
-		fmt.Fprintf(bw, "%11s", units[i])
-	}
-	bw.WriteByte('\n')
-	for _, r := range t.Rows {
-		for i, v := range rowValues(r)[:len(head)] {
-			s := "-"
-			switch {
-			case math.IsNaN(v) || math.IsInf(v, 0):
-			case i <= 1:
-				s = strconv.FormatFloat(v, 'f', 3, 64)
-			case i == 9 || i == 10:
-				s = strconv.FormatFloat(v, 'f', 3, 64)
-			default:
-				s = strconv.FormatFloat(v, 'g', 4, 64)
-				if f, err := strconv.ParseFloat(s, 64); err == nil && math.Abs(f) >= 1 && math.Abs(f) < 1e7 {
-					s = strconv.FormatFloat(f, 'f', -1, 64)
-				}
-			}
-			fmt.Fprintf(bw, "%11s", s)
-		}
-		if len(r.Flags) > 0 {
-			fmt.Fprintf(bw, "  %s", strings.Join(r.Flags, " "))
-		}
-		bw.WriteByte('\n')
-	}
+	writeMainColumnsText(bw, t)
 	bw.WriteByte('\n')
 	for _, s := range warnings {
 		fmt.Fprintln(bw, "warning: "+s)
