@@ -265,12 +265,13 @@ func floorDiv(a, b int64) int64 {
 	return q
 }
 
-// WriteSubsectionSheet writes one row per stage and subsection.
-func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
-	u := t.Units
+// subsectionColumns are the columns of a subsection sheet: first names
+// where the subsection is (a stage, a section), then its number, region,
+// stations, n and hydraulics.
+func subsectionColumns(first workbook.Column, u rating.Units) []workbook.Column {
 	L := u.Length()
-	s, err := b.Table(name, []workbook.Column{
-		{Name: "stage", Unit: L, Format: "0.000"},
+	return []workbook.Column{
+		first,
 		{Name: "subsection", Format: "0"},
 		{Name: "region", Width: 15},
 		{Name: "from_station", Unit: L, Format: "0.00"},
@@ -282,7 +283,14 @@ func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
 		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
-	})
+	}
+}
+
+// WriteSubsectionSheet writes one row per stage and subsection.
+func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
+	u := t.Units
+	L := u.Length()
+	s, err := b.Table(name, subsectionColumns(workbook.Column{Name: "stage", Unit: L, Format: "0.000"}, u))
 	if err != nil {
 		return err
 	}

@@ -176,21 +176,7 @@ func writeSASections(b *workbook.Book, rep reach.Report) error {
 
 func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
-	L := u.Length()
-	s, err := b.Table(SheetSubsections, []workbook.Column{
-		{Name: "section", Width: 12},
-		{Name: "subsection", Format: "0"},
-		{Name: "region", Width: 15},
-		{Name: "from_station", Unit: L, Format: "0.00"},
-		{Name: "to_station", Unit: L, Format: "0.00"},
-		{Name: "n", Format: "0.000"},
-		{Name: "area", Unit: u.Area(), Format: workbook.FormatSig3},
-		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
-		{Name: "top_width", Unit: L, Format: "0.00"},
-		{Name: "conveyance", Unit: u.Conveyance(), Format: workbook.FormatSig3},
-		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
-		{Name: "velocity", Unit: u.Velocity(), Format: "0.00"},
-	})
+	s, err := b.Table(SheetSubsections, subsectionColumns(workbook.Column{Name: "section", Width: 12}, u))
 	if err != nil {
 		return err
 	}
