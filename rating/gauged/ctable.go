@@ -286,6 +286,13 @@ func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
 			keep = append(keep, m)
 		}
 	}
+	return stageGrid(keep, lo, top, step), nil
+}
+
+// stageGrid returns the stages keep and the multiples of step between lo
+// and top, less those within stageMerge of a step of a stage kept, sorted
+// and without repeats.
+func stageGrid(keep []float64, lo, top, step float64) []float64 {
 	out := append([]float64(nil), keep...)
 	first := math.Ceil(lo / step)
 	for i := 0.0; ; i++ {
@@ -303,7 +310,7 @@ func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
 	}
 	out = rating.SortedStages(out)
 	sort.Float64s(out)
-	return out, nil
+	return out
 }
 
 // row returns the table's row at gauge height h, with its bands when

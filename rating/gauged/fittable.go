@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 	"wetline/rating"
 )
 
@@ -214,26 +213,7 @@ func fitTableStages(f *Fit, lo, top, step float64) []float64 {
 	if f.HighStage <= top {
 		must = append(must, f.HighStage)
 	}
-	stages := append([]float64(nil), must...)
-	first := math.Ceil(lo / step)
-	for i := 0.0; ; i++ {
-		h := (first + i) * step
-		if h >= top {
-			break
-		}
-		near := false
-		for _, m := range must {
-			if math.Abs(h-m) < stageMerge*step {
-				near = true
-			}
-		}
-		if !near && h > lo {
-			stages = append(stages, h)
-		}
-	}
-	stages = rating.SortedStages(stages)
-	sort.Float64s(stages)
-	return stages
+	return stageGrid(must, lo, top, step)
 }
 
 // warnFalling warns of the first row of the scaled hydraulic rating
