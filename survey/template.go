@@ -1,13 +1,10 @@
 package survey
 
 import (
-	"bytes"
 	"fmt"
 	"io"
 	"strconv"
 	"strings"
-
-	"github.com/xuri/excelize/v2"
 
 	"wetline/rating"
 	"wetline/survey/workbook"
@@ -120,23 +117,20 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	b.Title = "wetline field workbook"
 	b.Footer = rating.Caution
 	names := sectionSheetNames(opt)
-	var blocks []siteBlock
 	for i, name := range names {
 		var data [][]any
-		blk := siteBlock{sheet: name, columns: len(sectionColumns(opt.Units)), site: opt.Site}
+		site := opt.Site
 		if i < len(opt.Surveys) {
 			data = surveyRows(opt.Surveys[i])
-			blk.site = opt.Site.Merge(opt.Surveys[i].Site)
+			site = opt.Site.Merge(opt.Surveys[i].Site)
 		}
-		if err := b.InputSheet(name, sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
+		if err := b.KeyedInputSheet(name, siteRows(site), sectionColumns(opt.Units), max(opt.Rows, len(data)), data); err != nil {
 			return err
 		}
-		blocks = append(blocks, blk)
 	}
-	if err := b.InputSheet(FieldSheetCoordinates, coordinateSheetColumns(opt.Units), opt.Rows, nil); err != nil {
+	if err := b.KeyedInputSheet(FieldSheetCoordinates, siteRows(opt.Site), coordinateSheetColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	blocks = append(blocks, siteBlock{sheet: FieldSheetCoordinates, columns: len(coordinateSheetColumns(opt.Units)), site: opt.Site})
 	if err := b.InputSheet(FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
@@ -153,60 +147,7 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	}, FieldSheetInstructions); err != nil {
 		return err
 	}
-	st, err := siteStyles(b)
-	if err != nil {
-		return err
-	}
-	var buf bytes.Buffer
-	if err := b.Write(&buf); err != nil {
-		return err
-	}
-	return writeSiteBlocks(w, buf.Bytes(), blocks, st)
-}
-
-// siteBlock is a sheet that gets a site block above its table: its name,
-// its number of columns and the site to fill in (zero: blank values).
-type siteBlock struct {
-	sheet   string
-	columns int
-	site    rating.Site
-}
-
-// blockStyles are the cell styles of a site block: keys as labels, values
-// as text a crew fills in.
-type blockStyles struct {
-	key, value int
-}
-
-// siteStyles makes the styles of the site blocks in b's style table.
-func siteStyles(b *workbook.Book) (blockStyles, error) {
-	var st blockStyles
-	var err error
-	if st.key, err = b.LabelStyle(); err != nil {
-		return st, err
-	}
-	st.value, err = b.InputStyle(workbook.FormatText)
-	return st, err
-}
-
-// writeSiteBlocks writes the workbook held in data to w with a site block
-// inserted above the table of each sheet of blocks: the rows below move
-// down with their validation rules, row heights and print titles, and the
-// panes are frozen below the header again. The styles were made in the
-// workbook before it was written (cell style ids survive the round trip).
-func writeSiteBlocks(w io.Writer, data []byte, blocks []siteBlock, st blockStyles) error {
-	f, err := excelize.OpenReader(bytes.NewReader(data))
-	if err != nil {
-		return err
-	}
-	defer f.Close()
-	for _, blk := range blocks {
-		if err := insertSiteBlock(f, blk, st); err != nil {
-			return fmt.Errorf("template: sheet %s: %w", blk.sheet, err)
-		}
-	}
-	_, err = f.WriteTo(w)
-	return err
+	return b.Write(w)
 }
 
 // siteValues returns a site's values by metadata key (see MetaKeys).
@@ -231,46 +172,15 @@ func siteHelp(key string) string {
 	return ""
 }
 
-// insertSiteBlock inserts the rows of a site block at the top of a sheet:
-// the key in column A, its value in B merged across the other columns.
-func insertSiteBlock(f *excelize.File, blk siteBlock, st blockStyles) error {
-	keys := MetaKeys()
-	if err := f.InsertRows(blk.sheet, 1, len(keys)); err != nil {
-		return err
+// siteRows are the key rows of a site block: each of MetaKeys with the
+// site's value and its prompt.
+func siteRows(s rating.Site) []workbook.KeyRow {
+	values := siteValues(s)
+	var rows []workbook.KeyRow
+	for _, k := range MetaKeys() {
+		rows = append(rows, workbook.KeyRow{Key: k, Value: values[k], Help: siteHelp(k)})
 	}
-	last, err := excelize.ColumnNumberToName(max(blk.columns, 2))
-	if err != nil {
-		return err
-	}
-	values := siteValues(blk.site)
-	for i, k := range keys {
-		row := strconv.Itoa(i + 1)
-		if err := f.SetCellStr(blk.sheet, "A"+row, k); err != nil {
-			return err
-		}
-		if err := f.SetCellStyle(blk.sheet, "A"+row, "A"+row, st.key); err != nil {
-			return err
-		}
-		if v := values[k]; v != "" {
-			if err := f.SetCellStr(blk.sheet, "B"+row, v); err != nil {
-				return err
-			}
-		}
-		if err := f.SetCellStyle(blk.sheet, "B"+row, last+row, st.value); err != nil {
-			return err
-		}
-		if err := f.MergeCell(blk.sheet, "B"+row, last+row); err != nil {
-			return err
-		}
-		dv := excelize.NewDataValidation(true)
-		dv.Sqref = "B" + row
-		dv.SetInput(k, siteHelp(k))
-		if err := f.AddDataValidation(blk.sheet, dv); err != nil {
-			return err
-		}
-	}
-	return f.SetPanes(blk.sheet, &excelize.Panes{Freeze: true, YSplit: SectionHeaderRow,
-		TopLeftCell: "A" + strconv.Itoa(SectionHeaderRow+1), ActivePane: "bottomLeft"})
+	return rows
 }
 
 // sectionSheetNames names the cross-section sheets: a prefilled sheet

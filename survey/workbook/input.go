@@ -43,10 +43,24 @@ type InputColumn struct {
 	Help string
 }
 
+// KeyRow is a row above an input sheet's header: a key in column A and
+// its value (blank for a crew to fill) in column B, which spans the
+// sheet's other columns, with a prompt shown when it is selected.
+type KeyRow struct {
+	Key, Value, Help string
+}
+
 // InputSheet adds a sheet for a field crew to fill: a styled, frozen
 // header in row 1, input-coloured columns, each column's rule on rows
 // 2 … rows+1, and data (if any) from row 2, one []any per row.
 func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]any) error {
+	return b.KeyedInputSheet(name, nil, cols, rows, data)
+}
+
+// KeyedInputSheet is InputSheet with the key rows keys above the header
+// (rows 1 … len(keys)): the header, its rules, the data, the frozen panes
+// and the rows printed on every page all move down below them.
+func (b *Book) KeyedInputSheet(name string, keys []KeyRow, cols []InputColumn, rows int, data [][]any) error {
 	if err := b.NewSheet(name); err != nil {
 		return err
 	}
@@ -55,6 +69,8 @@ func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]an
 	if err != nil {
 		return err
 	}
+	head := len(keys) + 1 // the header's row
+	hr := strconv.Itoa(head)
 	for i, c := range cols {
 		col, err := excelize.ColumnNumberToName(i + 1)
 		if err != nil {
@@ -70,17 +86,17 @@ func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]an
 		if err := f.SetColWidth(name, col, col, c.Width); err != nil {
 			return err
 		}
-		if err := f.SetCellValue(name, col+"1", c.Header()); err != nil {
+		if err := f.SetCellValue(name, col+hr, c.Header()); err != nil {
 			return err
 		}
-		if err := f.SetCellStyle(name, col+"1", col+"1", hs); err != nil {
+		if err := f.SetCellStyle(name, col+hr, col+hr, hs); err != nil {
 			return err
 		}
 		if c.Rule == nil {
 			continue
 		}
 		dv := excelize.NewDataValidation(true)
-		dv.Sqref = fmt.Sprintf("%s2:%s%d", col, col, rows+1)
+		dv.Sqref = fmt.Sprintf("%s%d:%s%d", col, head+1, col, head+rows)
 		if err := c.Rule.apply(dv); err != nil {
 			return fmt.Errorf("%s column %s: %w", name, c.Name, err)
 		}
@@ -91,8 +107,12 @@ func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]an
 			return err
 		}
 	}
+	// After the column styles, which spread down every cell of a column.
+	if err := b.keyRows(name, keys, len(cols)); err != nil {
+		return err
+	}
 	for i, r := range data {
-		if err := f.SetSheetRow(name, "A"+strconv.Itoa(i+2), &r); err != nil {
+		if err := f.SetSheetRow(name, "A"+strconv.Itoa(head+1+i), &r); err != nil {
 			return err
 		}
 	}
@@ -100,13 +120,64 @@ func (b *Book) InputSheet(name string, cols []InputColumn, rows int, data [][]an
 	for _, c := range cols {
 		total += c.Width
 	}
-	if err := b.printSetup(name, 1, total); err != nil {
+	if err := b.printSetupRows(name, head, head, total); err != nil {
 		return err
 	}
-	if err := f.SetRowHeight(name, 1, 30); err != nil {
+	if err := f.SetRowHeight(name, head, 30); err != nil {
 		return err
 	}
-	return f.SetPanes(name, &excelize.Panes{Freeze: true, YSplit: 1, TopLeftCell: "A2", ActivePane: "bottomLeft"})
+	return f.SetPanes(name, &excelize.Panes{Freeze: true, YSplit: head, TopLeftCell: "A" + strconv.Itoa(head+1), ActivePane: "bottomLeft"})
+}
+
+// keyRows writes key rows at the top of a sheet of cols columns: each key
+// as a label in column A, its value as text in column B merged across the
+// other columns, with the key's prompt.
+func (b *Book) keyRows(name string, keys []KeyRow, cols int) error {
+	if len(keys) == 0 {
+		return nil
+	}
+	ks, err := b.LabelStyle()
+	if err != nil {
+		return err
+	}
+	vs, err := b.InputStyle(FormatText)
+	if err != nil {
+		return err
+	}
+	last, err := excelize.ColumnNumberToName(max(cols, 2))
+	if err != nil {
+		return err
+	}
+	f := b.f
+	for i, k := range keys {
+		row := strconv.Itoa(i + 1)
+		if err := f.SetCellStr(name, "A"+row, k.Key); err != nil {
+			return err
+		}
+		if err := f.SetCellStyle(name, "A"+row, "A"+row, ks); err != nil {
+			return err
+		}
+		if k.Value != "" {
+			if err := f.SetCellStr(name, "B"+row, k.Value); err != nil {
+				return err
+			}
+		}
+		if err := f.SetCellStyle(name, "B"+row, last+row, vs); err != nil {
+			return err
+		}
+		if err := f.MergeCell(name, "B"+row, last+row); err != nil {
+			return err
+		}
+		if k.Help != "" {
+			dv := excelize.NewDataValidation(true)
+			dv.Sqref = "B" + row
+			dv.SetInput(k.Key, k.Help)
+			if err := f.AddDataValidation(name, dv); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
 }
 
 // apply sets the rule on a data validation.

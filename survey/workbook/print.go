@@ -82,6 +82,12 @@ func (b *Book) pageHead(sheet string) error {
 // page. For a streamed sheet it must run before the stream writer is
 // created.
 func (b *Book) printSetup(sheet string, headRows int, widths float64) error {
+	return b.printSetupRows(sheet, 1, headRows, widths)
+}
+
+// printSetupRows is printSetup with the rows repeated on every page from
+// first to last (1-based).
+func (b *Book) printSetupRows(sheet string, first, last int, widths float64) error {
 	if err := b.pageHead(sheet); err != nil {
 		return err
 	}
@@ -97,7 +103,7 @@ func (b *Book) printSetup(sheet string, headRows int, widths float64) error {
 		return err
 	}
 	return b.f.SetDefinedName(&excelize.DefinedName{
-		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("'%s'!$1:$%d", strings.ReplaceAll(sheet, "'", "''"), headRows), Scope: sheet,
+		Name: "_xlnm.Print_Titles", RefersTo: fmt.Sprintf("'%s'!$%d:$%d", strings.ReplaceAll(sheet, "'", "''"), first, last), Scope: sheet,
 	})
 }
 

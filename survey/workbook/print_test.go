@@ -403,3 +403,51 @@ func TestWrapColumn(t *testing.T) {
 		t.Errorf("row height %g pt, want 4 lines", h)
 	}
 }
+
+// Key rows above an input sheet's header push the header, its rules, the
+// data, the frozen panes and the printed titles down below them; the
+// value cells are text spanning the sheet, with their prompts.
+func TestKeyedInputSheet(t *testing.T) {
+	b := NewBook()
+	defer b.Close()
+	keys := []KeyRow{{Key: "site", Value: "Heron Weir", Help: "the site"}, {Key: "surveyed", Help: "a date"}}
+	cols := []InputColumn{
+		{Column: Column{Name: "station", Width: 10}, Rule: &Rule{Kind: Decimal, Lo: -10, Hi: 10}},
+		{Column: Column{Name: "elevation", Width: 10}},
+		{Column: Column{Name: "note", Width: 20}},
+	}
+	if err := b.KeyedInputSheet("xs", keys, cols, 4, [][]any{{1.5, 2.5, "pin"}}); err != nil {
+		t.Fatal(err)
+	}
+	f, _ := writeBook(t, b)
+	cell := func(ref string) string {
+		v, err := f.GetCellValue("xs", ref)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	for ref, want := range map[string]string{"A1": "site", "B1": "Heron Weir", "A2": "surveyed", "A3": "station", "B3": "elevation", "A4": "1.5", "C4": "pin"} {
+		if got := cell(ref); got != want {
+			t.Errorf("%s = %q, want %q", ref, got, want)
+		}
+	}
+	if got := definedName(f, "xs", "_xlnm.Print_Titles"); got != "'xs'!$3:$3" {
+		t.Errorf("print titles %q", got)
+	}
+	dvs, err := f.GetDataValidations("xs")
+	if err != nil || len(dvs) != 3 || dvs[0].Sqref != "A4:A7" || dvs[1].Sqref != "B1" || dvs[1].PromptTitle == nil || *dvs[1].PromptTitle != "site" {
+		t.Errorf("rules %+v %v", dvs, err)
+	}
+	merged, err := f.GetMergeCells("xs")
+	if err != nil || len(merged) != 2 || merged[0].GetStartAxis() != "B1" || merged[0].GetEndAxis() != "C1" {
+		t.Errorf("merged %v %v", merged, err)
+	}
+	id, err := f.GetCellStyle("xs", "B2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if st, err := f.GetStyle(id); err != nil || st.CustomNumFmt == nil || *st.CustomNumFmt != FormatText {
+		t.Errorf("B2 style %+v %v, want text", st, err)
+	}
+}
