@@ -3,9 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
-	"math"
 
-	"wetline/plotting"
 	"wetline/rating"
 	"wetline/survey"
 	"wetline/survey/results"
@@ -41,18 +39,13 @@ func (d *demo) coordinates() error {
 		func(w io.Writer) error { return results.WriteProjectionCSV(w, pr) }); err != nil {
 		return err
 	}
-	pts := pr.Survey.Section.Points
-	figs, warnings, err := plotting.DrawPlan(plotting.PlanPlot{Site: pr.Provenance.Site.Name, Section: pr.Survey.Section.Name, Units: pr.Units,
-		Easting: proj.Easting, Northing: proj.Northing, Labels: pr.Survey.Labels,
-		OriginE: proj.OriginE, OriginN: proj.OriginN, Azimuth: proj.Azimuth, Length: math.Max(pts[len(pts)-1].Station, 0),
-		Notes: []string{"Section line: " + proj.Line + "; left bank from " + proj.Left + "."}}, "larch-xs")
-	if err != nil {
+	if err := drawPlan(&pr, survey.CoordinateOptions{}); err != nil {
 		return err
 	}
-	if err := d.figures(figs); err != nil {
+	if err := d.figures(pr.Figures); err != nil {
 		return err
 	}
-	d.warn(append(pr.Warnings, warnings...))
+	d.warn(pr.Warnings)
 	p, err := survey.Prepare(survey.SectionRequest{Path: d.path(demoCoordSurvey)})
 	if err != nil {
 		return err

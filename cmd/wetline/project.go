@@ -50,18 +50,9 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	rep.Provenance.Program = program()
 	rep.Provenance.Site = siteWith(rep.Provenance.Site, *site)
 	if *plots != "" {
-		sv, pr := rep.Survey, rep.Survey.Projection
-		pts := sv.Section.Points
-		pp := plotting.PlanPlot{Site: rep.Provenance.Site.Name, Section: sv.Section.Name, Units: rep.Units,
-			Easting: pr.Easting, Northing: pr.Northing, Labels: sv.Labels,
-			OriginE: pr.OriginE, OriginN: pr.OriginN, Azimuth: pr.Azimuth, Length: math.Max(pts[len(pts)-1].Station, 0),
-			FlowAzimuth: opt.FlowAzimuth, FlowGiven: opt.FlowGiven,
-			Notes: []string{"Section line: " + pr.Line + "; left bank from " + pr.Left + "."}}
-		figs, w, err := plotting.DrawPlan(pp, sv.Section.Name)
-		if err != nil {
+		if err := drawPlan(&rep, opt); err != nil {
 			return err
 		}
-		rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
 	}
 	write := results.WriteProjectionCSV
 	if f == "json" {
@@ -71,4 +62,21 @@ func runProject(ctx context.Context, e *env, args []string) error {
 		write:  func(w io.Writer) error { return write(w, rep) },
 		inline: f == "json", warnings: rep.Warnings, plots: *plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteProjectionSummary(w, rep, *out) }})
+}
+
+// drawPlan draws the plan figure of a projected survey into its report,
+// named after its section; opt gives the flow direction, when known.
+func drawPlan(rep *survey.ProjectionReport, opt survey.CoordinateOptions) error {
+	sv, pr := rep.Survey, rep.Survey.Projection
+	pts := sv.Section.Points
+	figs, w, err := plotting.DrawPlan(plotting.PlanPlot{Site: rep.Provenance.Site.Name, Section: sv.Section.Name, Units: rep.Units,
+		Easting: pr.Easting, Northing: pr.Northing, Labels: sv.Labels,
+		OriginE: pr.OriginE, OriginN: pr.OriginN, Azimuth: pr.Azimuth, Length: math.Max(pts[len(pts)-1].Station, 0),
+		FlowAzimuth: opt.FlowAzimuth, FlowGiven: opt.FlowGiven,
+		Notes: []string{"Section line: " + pr.Line + "; left bank from " + pr.Left + "."}}, figureBase(sv.Section.Name))
+	if err != nil {
+		return err
+	}
+	rep.Figures, rep.Warnings = figs, append(rep.Warnings, w...)
+	return nil
 }

@@ -157,7 +157,7 @@ func TestCoordinateSurveyEverywhere(t *testing.T) {
 func TestDemoCoordinateSurvey(t *testing.T) {
 	t.Parallel()
 	dir, stdout := demoOutput(t)
-	for _, name := range []string{"larch-xs-coords.csv", "larch-xs-stations.csv", "larch-xs-plan.png", "larch-xs-results.xlsx"} {
+	for _, name := range []string{"larch-xs-coords.csv", "larch-xs-stations.csv", "larch-xs-coords-plan.png", "larch-xs-results.xlsx"} {
 		if !strings.Contains(stdout, name) {
 			t.Errorf("the demo does not list %s", name)
 		}

@@ -16,7 +16,7 @@ import (
 // demo run into testdata/readme with -update, so the README never shows a
 // figure the program no longer draws.
 var readmeFigures = [...]string{
-	"tallow-xs1-section.png", "tallow-xs1-rating.png", "larch-xs-plan.png", "tallow-fit.png",
+	"tallow-xs1-section.png", "tallow-xs1-rating.png", "larch-xs-coords-plan.png", "tallow-fit.png",
 	"reach-brindle-profile.png", "tallow-backwater-rating.png", "tallow-stage-2025-hydrograph.png",
 }
 
