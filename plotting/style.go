@@ -268,8 +268,7 @@ func render(w io.Writer, size Size, fig figure, body func(c draw.Canvas) error) 
 	if err != nil {
 		return err
 	}
-	_, err = vgimg.PngCanvas{Canvas: img}.WriteTo(w)
-	return err
+	return encodePNG(w, img.Image())
 }
 
 // footStyle picks the largest type from sizeCaution down to sizeMinNote
