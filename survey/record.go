@@ -42,6 +42,9 @@ type StageRecord struct {
 	// Blank is the number of rows with a time but no stage (read as
 	// missing readings).
 	Blank int
+	// Units is what the stage header says of the unit system
+	// ("stage (ft)"); nothing is converted.
+	Units UnitNote
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
 }
@@ -211,6 +214,9 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	b.cq = t.Column(ColRecordQuality)
+	if b.out.Units, err = t.HeaderUnits(b.cs); err != nil {
+		return err
+	}
 	b.header, b.headerRow = h, row
 	st := &b.out.Stages
 	st.Time = make([]int64, 0, sizeHint)

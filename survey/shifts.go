@@ -45,6 +45,9 @@ type ShiftDiagrams struct {
 	Diagrams []gauged.ShiftDiagram
 	// File and Sheet say where the diagrams came from.
 	File, Sheet string
+	// Units is what the stage, shift and taper headers say of the unit
+	// system ("shift (ft)"); nothing is converted.
+	Units UnitNote
 }
 
 // ErrAbruptWord is the cause of an abrupt cell that is not a yes or a no.
@@ -77,7 +80,10 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // leave its stage blank: a shift constant in stage. Diagrams are gathered
 // and checked by gauged.DiagramsFromRows. Every bad cell is reported with
 // its position, and so is the row that makes a diagram fall faster than
-// the stage rises (gauged.ErrShiftSlope).
+// the stage rises (gauged.ErrShiftSlope). Units written in the stage,
+// shift and taper headers are reported in Units; an unknown unit
+// (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an error
+// naming the column.
 func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, error) {
 	out := ShiftDiagrams{File: t.File, Sheet: t.Sheet}
 	off, err := checkOffset(opt.UTCOffset)
@@ -94,6 +100,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 		return out, err
 	}
 	cols[ColShiftTaper], cols[ColShiftAbrupt] = t.Column(ColShiftTaper), t.Column(ColShiftAbrupt)
+	if out.Units, err = t.HeaderUnits(cols[ColShiftStage], cols[ColShift], cols[ColShiftTaper]); err != nil {
+		return out, err
+	}
 	var errs errorList
 	var rows []gauged.ShiftRow
 	var recs []Record

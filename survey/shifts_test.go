@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"wetline/rating"
 	"wetline/rating/gauged"
 )
 
@@ -89,5 +90,59 @@ func TestShiftRowsRoundTrip(t *testing.T) {
 	got := ds.Diagrams[0]
 	if !got.Time.Equal(d.Time) || len(got.Points) != 2 || got.At(1.7) != d.At(1.7) {
 		t.Errorf("read back %+v", got)
+	}
+}
+
+// Units written in the headers of shift diagrams (stage, shift, taper)
+// and of a stage record (stage) are reported, to be resolved by the caller
+// against the ratings; units of two systems or an unknown unit are refused
+// at the column. Other columns' headers are not read.
+func TestShiftAndStageHeaderUnits(t *testing.T) {
+	t.Parallel()
+	shifts := func(header string) (UnitNote, error) {
+		ds, err := ParseShiftDiagrams(strings.NewReader(header+"\n2024-03-01,1.0,0.1,2.0,,x\n"), "s.csv", ShiftTableOptions{})
+		return ds.Units, err
+	}
+	stages := func(header string) (UnitNote, error) {
+		sr, err := ParseStageRecord(strings.NewReader(header+"\n2024-03-01T00:00,1.0,x\n2024-03-01T01:00,1.1,x\n"), "s.csv", StageRecordOptions{})
+		if err != nil {
+			return UnitNote{}, err
+		}
+		return sr.Units, nil
+	}
+	for _, tc := range []struct {
+		name, header string
+		read         func(string) (UnitNote, error)
+		found        bool
+		units        rating.Units
+		at           string // the first column naming a unit, or the refused one
+		is           error
+	}{
+		{"shifts without units", "time,stage,shift,taper,abrupt,note", shifts, false, rating.SI, "", nil},
+		{"shifts in feet", "time,stage (ft),shift (ft),taper (ft),abrupt,note", shifts, true, rating.US, "s.csv:1:2", nil},
+		{"shift alone in metres", "time,stage,shift (m),taper,abrupt,note", shifts, true, rating.SI, "s.csv:1:3", nil},
+		{"taper in another system", "time,stage (m),shift (m),taper (ft),abrupt,note", shifts, false, rating.SI, "s.csv:1:4: taper (ft)", ErrMixedUnits},
+		{"shift in an unknown unit", "time,stage,shift (cubits),taper,abrupt,note", shifts, false, rating.SI, "s.csv:1:3: shift (cubits)", ErrUnknownUnit},
+		{"note not read", "time,stage,shift,taper,abrupt,note (furlongs)", shifts, false, rating.SI, "", nil},
+		{"stages without units", "time,stage,quality", stages, false, rating.SI, "", nil},
+		{"stages in feet", "time,gauge height (ft),quality", stages, true, rating.US, "s.csv:1:2", nil},
+		{"stages in an unknown unit", "time,stage (yd),quality", stages, false, rating.SI, "s.csv:1:2: stage (yd)", ErrUnknownUnit},
+		{"quality not read", "time,stage,quality (m3/s)", stages, false, rating.SI, "", nil},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			u, err := tc.read(tc.header)
+			if tc.is != nil {
+				if !errors.Is(err, tc.is) || !strings.Contains(err.Error(), tc.at) {
+					t.Errorf("%v, want %v at %s", err, tc.is, tc.at)
+				}
+				return
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			if u.Found != tc.found || (u.Found && (u.Units != tc.units || u.At.Position() != tc.at)) {
+				t.Errorf("units %+v, want found %v, %v at %s", u, tc.found, tc.units, tc.at)
+			}
+		})
 	}
 }

@@ -44,6 +44,9 @@ func TestRatingTableUnitsFromHeaders(t *testing.T) {
 	mixed := withHeader(t, dir, "mixed.csv", recRatingA, "stage,discharge", "stage (ft),discharge (m3/s)")
 	feetTable := withHeader(t, dir, "xs1-ft.csv", fitDemoRatingTable, "stage,depth", "stage (ft),depth (ft)")
 	feetGaugings := withHeader(t, dir, "g-ft.csv", "testdata/record/gaugings.csv", "time,stage,discharge", "time,stage (ft),discharge (ft3/s)")
+	feetStages := withHeader(t, dir, "stage-ft.csv", recStages, "time,stage (m)", "time,stage (ft)")
+	metresShifts := withHeader(t, dir, "shifts-m.csv", recShifts, "time,stage,shift", "time,stage (m),shift (m)")
+	mixedShifts := withHeader(t, dir, "shifts-mixed.csv", recShifts, "time,stage,shift", "time,stage (m),shift (ft)")
 	for _, c := range []struct {
 		name      string
 		args      []string
@@ -52,7 +55,7 @@ func TestRatingTableUnitsFromHeaders(t *testing.T) {
 	}{
 		{"compare", []string{"compare", feetA, feetB, "--format", "json"}, `"discharge": "ft3/s"`, "a-ft.csv:2:1: stage (ft)"},
 		{"fit", []string{"fit", fitDemoGaugings, "--hydraulic-rating", feetTable, "--datum", "100", "--compare-only"}, "us units", "xs1-ft.csv:1:1: stage (ft)"},
-		{"record", []string{"record", recStages, "--rating", feetA}, "discharge in ft3/s", "a-ft.csv:2:1: stage (ft)"},
+		{"record", []string{"record", feetStages, "--rating", feetA}, "discharge in ft3/s", "a-ft.csv:2:1: stage (ft)"},
 		{"shifts", []string{"shifts", "testdata/record/gaugings.csv", "--rating", feetA}, "ft3/s", "a-ft.csv:2:1: stage (ft)"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
@@ -79,6 +82,16 @@ func TestRatingTableUnitsFromHeaders(t *testing.T) {
 			[]string{"g-ft.csv:2:2: stage (ft)", "si units set by the headers of " + metresB}},
 		{"record's gaugings too", []string{"record", recStages, "--rating", metresB, "--gaugings", feetGaugings},
 			[]string{"g-ft.csv:2:2: stage (ft)", "si units set by the headers of " + metresB}},
+		{"a stage record in other units than the ratings", []string{"record", feetStages, "--rating", metresB},
+			[]string{"stage-ft.csv:2:2: stage (ft)", "says ft (us units)", "si units set by the headers of " + metresB}},
+		{"a stage record against --units", []string{"record", feetStages, "--rating", recRatingA, "--units", "si"},
+			[]string{"stage-ft.csv:2:2: stage (ft)", "si units set by --units"}},
+		{"shift diagrams in other units than the ratings", []string{"record", recStages, "--rating", feetA, "--shifts", metresShifts},
+			[]string{"shifts-m.csv:2:2: stage (m)", "us units set by the headers of " + feetA}},
+		{"shift diagrams checked by shifts too", []string{"shifts", "testdata/record/gaugings.csv", "--rating", feetA, "--shifts", metresShifts},
+			[]string{"shifts-m.csv:2:2: stage (m)", "us units set by the headers of " + feetA}},
+		{"a shift diagram mixing systems", []string{"record", recStages, "--rating", recRatingA, "--shifts", mixedShifts},
+			[]string{"shifts-mixed.csv:2:3: shift (ft)", "different unit systems"}},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()

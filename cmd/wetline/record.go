@@ -165,7 +165,6 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 			periods = append(periods, datedPeriod{p, s})
 		}
 	}
-	hf.decided, hf.unitSystem = d, d.Units
 	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
 	for i, p := range periods {
 		if i > 0 && p.From.Equal(periods[i-1].From) {
@@ -183,19 +182,23 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		if err != nil {
 			return h, nil, nil, err
 		}
+		if err := d.take(ds.Units, hf.shifts); err != nil {
+			return h, nil, nil, err
+		}
 		h.Shifts = ds.Diagrams
 		inputs = append(inputs, hf.shifts)
 	} else if err := fs.needs("--shifts FILE", false, "shifts-sheet"); err != nil {
 		return h, nil, nil, err
 	}
+	hf.decided, hf.unitSystem = d, d.Units
 	return h, inputs, warnings, nil
 }
 
-// gaugingUnits resolves the units of the gaugings' headers against those
-// of the ratings (or --units); gaugings naming units set them when nothing
-// had.
-func (hf *historyFlags) gaugingUnits(gs survey.Gaugings, path string) error {
-	if err := hf.decided.take(gs.Units, path); err != nil {
+// tableUnits resolves the units of a table's headers (the gaugings, the
+// stage record) against those of the ratings and shift diagrams (or
+// --units); a table naming units sets them when nothing had.
+func (hf *historyFlags) tableUnits(note survey.UnitNote, path string) error {
+	if err := hf.decided.take(note, path); err != nil {
 		return err
 	}
 	hf.unitSystem = hf.decided.Units
@@ -369,6 +372,9 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 	if err != nil {
 		return nil, err
 	}
+	if err := f.tableUnits(sr.Units, path); err != nil {
+		return nil, err
+	}
 	st := &sr.Stages
 	if format == "xlsx" {
 		days := int((st.Time[st.Len()-1]-st.Time[0])/86400) + 2
@@ -385,7 +391,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err != nil {
 			return nil, err
 		}
-		if err := f.gaugingUnits(gs, f.gaugings); err != nil {
+		if err := f.tableUnits(gs.Units, f.gaugings); err != nil {
 			return nil, err
 		}
 		site = gs.Site

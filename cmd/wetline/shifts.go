@@ -112,7 +112,7 @@ func (f *shiftsFlags) check(fs *flagSet, path string) (*gauged.ShiftCheck, error
 	if err != nil {
 		return nil, err
 	}
-	if err := f.gaugingUnits(gs, path); err != nil {
+	if err := f.tableUnits(gs.Units, path); err != nil {
 		return nil, err
 	}
 	c, err := r.CheckGaugings(gs.Gaugings, gauged.CheckOptions{VisitGap: f.visitGap, Units: f.unitSystem, UTCOffset: time.Duration(f.offset)})
