@@ -158,3 +158,33 @@ func TestShiftsRefusals(t *testing.T) {
 		t.Error("a refused run wrote its proposals")
 	}
 }
+
+// TestShiftsVisitGap: gaugings no more than --visit-gap apart make one
+// visit; 0 makes every gauging its own. The test gaugings are at 09:00
+// and 12:00 on one day and 11:00 the next (3 h and 23 h apart), so the
+// visit counts follow by hand.
+func TestShiftsVisitGap(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		gap    []string
+		visits int
+	}{
+		{nil, 2}, // the default, 12 h
+		{[]string{"--visit-gap", "0"}, 3},
+		{[]string{"--visit-gap", "2h"}, 3},
+		{[]string{"--visit-gap", "3h"}, 2},
+		{[]string{"--visit-gap", "24h"}, 1},
+	} {
+		out, errs, code := runCLI(t, shiftsArgs(append(tc.gap, "--format", "json")...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", tc.gap, code, errs)
+		}
+		var doc struct{ Visits []json.RawMessage }
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if len(doc.Visits) != tc.visits {
+			t.Errorf("%v: %d visits, want %d", tc.gap, len(doc.Visits), tc.visits)
+		}
+	}
+}
