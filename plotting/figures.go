@@ -326,8 +326,8 @@ type BackwaterFigures struct {
 // DrawBackwater draws the figures of a step-backwater report: the reach
 // profile with every computed profile, the stages at critical depth, the
 // high-water marks and a verified profile (Base-profiles.png), and the
-// rating at the rating section with the band between the profiles from
-// the two boundary stages, reads still depending on the boundary ringed,
+// rating at the rating section with the band spanned by the profiles from
+// the three starting stages, reads still depending on the boundary ringed,
 // beside any ratings to compare (Base-rating.png).
 func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: in.Base}
@@ -367,7 +367,7 @@ func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 		return nil, nil, err
 	}
 	rc := backwaterComparison(in)
-	caption := "step-backwater rating at " + r.Rating.Section + ", with the band between the profiles from the two boundary stages"
+	caption := "step-backwater rating at " + r.Rating.Section + ", with the band spanned by the profiles from three starting stages"
 	if len(in.Compare) > 0 {
 		caption += ", beside the ratings compared"
 	}
@@ -397,14 +397,16 @@ func backwaterComparison(in BackwaterFigures) RatingComparison {
 	rc := RatingComparison{Site: in.Site, Section: rt.Section, Units: r.Units, Size: in.Size,
 		Subtitle: fmt.Sprintf("step-backwater rating from the downstream boundary (%s); %s units",
 			r.Boundary.Words(r.Units), strings.ToUpper(r.Units.String())),
-		BandLabel:   "between the profiles from the two boundary stages",
+		BandLabel:   "spanned by the profiles from three starting stages",
 		MarkedLabel: fmt.Sprintf("still depending on the boundary (spread over %g %s)", rt.Tolerance, r.Units.Length())}
 	c := Curve{Label: "step-backwater rating at " + rt.Section}
 	for i, rd := range rt.Rows {
 		c.Points = append(c.Points, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})
 		if i < len(r.Profiles) && rt.Index < len(r.Profiles[i].Sections) {
-			second := r.Profiles[i].Sections[rt.Index].SecondWaterSurface
-			rc.Band = append(rc.Band, StageBand{Discharge: rd.Discharge, Low: math.Min(rd.Stage, second), High: math.Max(rd.Stage, second)})
+			s := r.Profiles[i].Sections[rt.Index]
+			lo := math.Min(rd.Stage, math.Min(s.SecondWaterSurface, s.HalfwayWaterSurface))
+			hi := math.Max(rd.Stage, math.Max(s.SecondWaterSurface, s.HalfwayWaterSurface))
+			rc.Band = append(rc.Band, StageBand{Discharge: rd.Discharge, Low: lo, High: hi})
 		}
 		if rd.Unsettled {
 			rc.Marked = append(rc.Marked, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})

@@ -55,7 +55,7 @@ func (f *backwaterFlags) register(fs *flagSet) {
 	fs.StringVar(&f.at, "at", "", "id of the section whose stages make the rating (default: the upstream section)")
 	fs.Float64Var(&f.expansion, "expansion", math.NaN(), "eddy-loss coefficient where the flow expands (velocity head falling downstream), 0 to 1 (default 0.5)")
 	fs.Float64Var(&f.contraction, "contraction", 0, "eddy-loss coefficient where the flow contracts, 0 to 1")
-	fs.Float64Var(&f.spreadTol, "spread-tol", math.NaN(), "largest difference between the profiles from the two boundary stages at the rating section "+
+	fs.Float64Var(&f.spreadTol, "spread-tol", math.NaN(), "largest difference between the profile from the boundary and those from the second and half-way starts at the rating section "+
 		"before its stage is flagged unsettled (default 0.01 m or 0.03 ft)")
 	fs.Float64Var(&f.verify, "verify", math.NaN(), "also compute the profile of this discharge and its departure from each high-water mark of the reach table")
 	fs.StringVar(&f.units, "units", "si", unitsUsage)

@@ -13,8 +13,9 @@ import (
 // Defaults and tolerances of the step-backwater computation.
 const (
 	// SpreadToleranceSI and SpreadToleranceUS are the default largest
-	// difference between the stages of the two profiles of a discharge at
-	// the rating section, 0.01 m or 0.03 ft, beyond which the rating read
+	// difference between the stage of a discharge's profile and those of
+	// its check profiles at the rating section, 0.01 m or 0.03 ft, beyond
+	// which the rating read
 	// there carries a warning (project default: the resolution to which a
 	// stage is read).
 	SpreadToleranceSI = 0.01
@@ -41,9 +42,9 @@ const (
 	// FlagCriticalStage: no subcritical stage balances the energy
 	// equation at the section; the stage is critical depth.
 	FlagCriticalStage = "critical_stage"
-	// FlagUnsettled: the two profiles of the discharge differ at the
-	// section by more than the spread tolerance: the boundary is not yet
-	// forgotten there.
+	// FlagUnsettled: the discharge's profile and its check profiles
+	// differ at the section by more than the spread tolerance: the
+	// boundary is not yet forgotten there.
 	FlagUnsettled = "unsettled"
 )
 
@@ -149,6 +150,10 @@ type SurfaceProfile struct {
 	Sections []ProfileSection
 	// Warnings are facts about this profile.
 	Warnings []string
+	// HalfwayStart is the stage half-way between Start and SecondStart
+	// from which the third profile was computed (Start itself where the
+	// half-way stage would be supercritical).
+	HalfwayStart float64
 }
 
 // ProfileSection is one section of a water-surface profile.
@@ -177,9 +182,11 @@ type ProfileSection struct {
 	// the specific energy.
 	Residual float64
 	Jump     bool
-	// SecondWaterSurface is the stage of the second profile, and Spread
-	// |WaterSurface − SecondWaterSurface| (length unit).
-	SecondWaterSurface, Spread float64
+	// SecondWaterSurface and HalfwayWaterSurface are the stages of the
+	// second and half-way profiles, and Spread the larger of
+	// |WaterSurface − SecondWaterSurface| and |WaterSurface −
+	// HalfwayWaterSurface| (length unit).
+	SecondWaterSurface, HalfwayWaterSurface, Spread float64
 	// Length is the subreach length to the next section downstream,
 	// weighted by conveyance where flow lengths are given; FrictionLoss
 	// Q²·Length/(K·Kdown) and EddyLoss k·|Δ velocity head| the losses over
@@ -243,12 +250,20 @@ type RatingRead struct {
 // losses the least (never one that falls short of them), and the section
 // is marked Critical.
 //
-// Every discharge is computed twice: from the boundary's stage and from a
-// second start (opt.Second; by default critical depth, or 1.3 times the
-// first start's depth where that is critical). Profiles from different
-// starts converge upstream; the difference at each section is its Spread,
-// and a rating read where it exceeds the tolerance is Unsettled and
-// warned: the reach is too short there for the boundary to be forgotten.
+// Every discharge is computed three times: from the boundary's stage, from
+// a second start (opt.Second; by default critical depth, or 1.3 times the
+// first start's depth where that is critical) and from half-way between
+// the two. Profiles from different starts converge upstream; the larger
+// difference of the two check profiles from the first at each section is
+// its Spread, and a rating read where it exceeds the tolerance is
+// Unsettled and warned: the reach is too short there for the boundary to
+// be forgotten. The half-way start guards against a chance agreement: over
+// a short reach a profile started from critical depth, with its large
+// velocity head and friction loss, can overshoot the first and cross it,
+// so that at some discharge the two meet at the rating section although
+// neither has forgotten its start; the half-way profile then differs.
+// Several trial starting stages are the usual check of convergence
+// (common practice).
 // A boundary stage in supercritical flow (below critical depth) is
 // replaced by critical depth and warned.
 //

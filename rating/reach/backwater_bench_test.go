@@ -7,8 +7,8 @@ import (
 )
 
 // BenchmarkBackwater computes 50 natural sections of 200 points at 500
-// discharges from 5 to 400 m³/s, each from two boundary stages (normal
-// depth and critical depth), with the exact geometry of every section,
+// discharges from 5 to 400 m³/s, each from three starting stages (normal
+// depth, critical depth and half-way), with the exact geometry of every section,
 // in connected-flow mode.
 func BenchmarkBackwater(b *testing.B) {
 	secs := naturalReach(b, 50, 200, 250, 0.0008)

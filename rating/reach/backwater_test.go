@@ -637,3 +637,40 @@ func TestBackwaterOptions(t *testing.T) {
 		}
 	}
 }
+
+// Over a short reach the profile from critical depth can overshoot the
+// first and cross it: solutions of the gradually-varied-flow equation
+// dy/dx = f(x, y) cannot cross (uniqueness of solutions of a first-order
+// equation), but the standard step's long subreaches can, and then the
+// two profiles meet at the rating section at some discharge by chance.
+// The half-way start shows the stage still depends on the boundary there.
+// Every section's Spread is the larger of the two check differences, and
+// the half-way profile starts half-way between the two starts.
+func TestBackwaterHalfwayStart(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.035), 3, 300, 0.001)
+	res, err := ComputeBackwater(secs, ladder(2, 200, 100), Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{At: secs[1].ID})
+	if err != nil {
+		t.Fatal(err)
+	}
+	chance := -1 // the discharge where the first two profiles agree best at the rating section
+	for i, p := range res.Profiles {
+		if want := (p.Start + p.SecondStart) / 2; p.HalfwayStart != want || p.Sections[2].HalfwayWaterSurface != want {
+			t.Errorf("Q %g: half-way start %g (at the boundary %g), want %g", p.Discharge, p.HalfwayStart, p.Sections[2].HalfwayWaterSurface, want)
+		}
+		for _, s := range p.Sections {
+			if want := math.Max(math.Abs(s.WaterSurface-s.SecondWaterSurface), math.Abs(s.WaterSurface-s.HalfwayWaterSurface)); s.Spread != want {
+				t.Errorf("Q %g, %s: spread %g, want %g", p.Discharge, s.ID, s.Spread, want)
+			}
+		}
+		d := math.Abs(p.Sections[1].WaterSurface - p.Sections[1].SecondWaterSurface)
+		if chance < 0 || d < math.Abs(res.Profiles[chance].Sections[1].WaterSurface-res.Profiles[chance].Sections[1].SecondWaterSurface) {
+			chance = i
+		}
+	}
+	p, rd := res.Profiles[chance], res.Rating.Rows[chance]
+	s := p.Sections[1]
+	if two := math.Abs(s.WaterSurface - s.SecondWaterSurface); !(two < SpreadToleranceSI) || !rd.Unsettled || !(rd.Spread > 10*SpreadToleranceSI) {
+		t.Errorf("Q %g: the first two profiles differ by %.4f at %s, the half-way one by %.4f; read spread %.4f unsettled %v: want a chance agreement caught",
+			p.Discharge, two, s.ID, math.Abs(s.WaterSurface-s.HalfwayWaterSurface), rd.Spread, rd.Unsettled)
+	}
+}

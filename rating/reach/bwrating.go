@@ -181,7 +181,7 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 	v.MeanDeparture = sum / float64(len(v.Marks))
 	if len(loose) > 0 {
 		v.Warnings = append(v.Warnings, fmt.Sprintf("the profile of %g %s still depends on the downstream boundary at the marks of %s "+
-			"(difference between the profiles from the two boundary stages): the departures there are uncertain by as much",
+			"(difference between the profiles from the boundary and from the check starts): the departures there are uncertain by as much",
 			q, opt.Units.Discharge(), strings.Join(loose, ", ")))
 	}
 	return v, nil

@@ -23,15 +23,16 @@ type bwRun struct {
 	u          rating.Units
 	kExp, kCon float64
 	// warm[k][j] is the stage of profile k at section j for the previous
-	// discharge (NaN before the first).
-	warm [2][]float64
+	// discharge (NaN before the first); k is the first profile, the
+	// second, or the half-way one.
+	warm [3][]float64
 	// crit[j] holds the critical crossings of section j for the current
 	// discharge once critDone[j].
 	crit     [][]bwCrossing
 	critDone []bool
 	// rows[k] holds profile k while it is computed; eq is the energy
 	// equation of the subreach being solved.
-	rows [2][]bwRow
+	rows [3][]bwRow
 	eq   subreach
 	// Facts gathered for the summary warnings.
 	walls    []float64 // highest stage with walls added, per section (NaN: none)
@@ -167,7 +168,8 @@ type bwRow struct {
 	hv, energy     float64
 }
 
-// profile computes the two profiles of discharge q.
+// profile computes the three profiles of discharge q: from the boundary,
+// from the second start and from half-way between them.
 func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	clear(r.critDone)
 	p := SurfaceProfile{Discharge: q}
@@ -201,10 +203,15 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	if err != nil {
 		return p, fmt.Errorf("second profile: %w", err)
 	}
+	p.HalfwayStart = r.halfway(s1, s2, q)
+	rows3, err := r.march(2, p.HalfwayStart, false, q)
+	if err != nil {
+		return p, fmt.Errorf("half-way profile: %w", err)
+	}
 	p.Sections = make([]ProfileSection, n)
 	var crit []string
 	for j := range rows1 {
-		p.Sections[j] = r.section(j, q, &rows1[j], rows2[j].st.stage)
+		p.Sections[j] = r.section(j, q, &rows1[j], rows2[j].st.stage, rows3[j].st.stage)
 		if rows1[j].critical && j < n-1 {
 			crit = append(crit, r.secs[j].ID)
 		}
@@ -216,14 +223,29 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	return p, nil
 }
 
-// section fills the reported values of section j.
-func (r *bwRun) section(j int, q float64, row *bwRow, second float64) ProfileSection {
+// halfway returns the stage half-way between the starts s1 and s2 of
+// discharge q, or s1 where that stage is supercritical (a compound
+// section with several critical stages), so that the half-way profile is
+// always a subcritical one.
+func (r *bwRun) halfway(s1, s2, q float64) float64 {
+	h := (s1 + s2) / 2
+	var st bwState
+	if err := r.models[len(r.secs)-1].state(h, &st); err != nil || !st.wet() || st.froude(q, r.u) > 1 {
+		return s1
+	}
+	return h
+}
+
+// section fills the reported values of section j; second and halfway are
+// the stages of the other two profiles there.
+func (r *bwRun) section(j int, q float64, row *bwRow, second, halfway float64) ProfileSection {
 	s := r.secs[j]
 	st := &row.st
 	out := ProfileSection{ID: s.ID, Distance: s.Distance, Bottom: r.models[j].bottom,
 		WaterSurface: st.stage, VelocityHead: row.hv, EnergyGrade: st.stage + row.hv,
 		Froude: st.froude(q, r.u), Area: st.area, TopWidth: st.width, Conveyance: st.k, Alpha: st.alpha(),
-		Critical: row.critical, SecondWaterSurface: second, Spread: math.Abs(st.stage - second),
+		Critical: row.critical, SecondWaterSurface: second, HalfwayWaterSurface: halfway,
+		Spread: math.Max(math.Abs(st.stage-second), math.Abs(st.stage-halfway)),
 		Length: row.length, FrictionLoss: row.hf, EddyLoss: row.he, Expanding: row.expanding,
 		Residual: row.residual, Jump: row.jump}
 	if st.walls && !(r.walls[j] >= st.stage) {
@@ -613,7 +635,7 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 	return out
 }
 
-// unsettledWarning words the warning for rating reads whose two profiles
+// unsettledWarning words the warning for rating reads whose profiles
 // still differ, or returns "".
 func unsettledWarning(rt BackwaterRating, u rating.Units) string {
 	n, worst := 0, 0.0
@@ -629,7 +651,7 @@ func unsettledWarning(rt BackwaterRating, u rating.Units) string {
 	if n == 0 {
 		return ""
 	}
-	return fmt.Sprintf("at %d of %d discharges (%.4g to %.4g %s) the profiles from the two boundary stages still differ at %s "+
+	return fmt.Sprintf("at %d of %d discharges (%.4g to %.4g %s) the profiles from the boundary and the check starts still differ at %s "+
 		"by more than %g %s (at most %.3f %s): the reach is too short for the boundary to be forgotten there; "+
 		"those rating stages depend on the boundary", n, len(rt.Rows), qlo, qhi, u.Discharge(), rt.Section,
 		rt.Tolerance, u.Length(), worst, u.Length())

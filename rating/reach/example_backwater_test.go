@@ -50,14 +50,14 @@ func ExampleComputeBackwater() {
 		fmt.Printf("rating at %s: %.0f m3/s at %.3f m (spread %.3f, unsettled %v)\n", res.Rating.Section, r.Discharge, r.Stage, r.Spread, r.Unsettled)
 	}
 	// Output:
-	// S1      0 m: ws 52.186  depth 2.186  energy 52.262  Froude 0.32  spread 0.071
-	// S2    400 m: ws 51.868  depth 2.268  energy 51.936  Froude 0.30  spread 0.146
-	// S3    800 m: ws 51.608  depth 2.408  energy 51.665  Froude 0.27  spread 0.270
-	// S4   1200 m: ws 51.416  depth 2.616  energy 51.461  Froude 0.23  spread 0.443
-	// S5   1600 m: ws 51.285  depth 2.885  energy 51.318  Froude 0.19  spread 0.641
+	// S1      0 m: ws 52.186  depth 2.186  energy 52.262  Froude 0.32  spread 0.076
+	// S2    400 m: ws 51.868  depth 2.268  energy 51.936  Froude 0.30  spread 0.156
+	// S3    800 m: ws 51.608  depth 2.408  energy 51.665  Froude 0.27  spread 0.293
+	// S4   1200 m: ws 51.416  depth 2.616  energy 51.461  Froude 0.23  spread 0.493
+	// S5   1600 m: ws 51.285  depth 2.885  energy 51.318  Froude 0.19  spread 0.744
 	// S6   2000 m: ws 51.200  depth 3.200  energy 51.224  Froude 0.15  spread 2.039
 	// rating at S1: 10 m3/s at 51.535 m (spread 0.220, unsettled true)
-	// rating at S1: 25 m3/s at 52.186 m (spread 0.071, unsettled true)
+	// rating at S1: 25 m3/s at 52.186 m (spread 0.076, unsettled true)
 }
 
 // The subreach length of a bend whose overbank paths are shorter than the

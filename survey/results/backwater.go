@@ -50,6 +50,9 @@ type jsonProfileSection struct {
 	EddyLoss           Float  `json:"eddy_loss"`
 	Expanding          bool   `json:"expanding"`
 	Jump               bool   `json:"jump"`
+	// HalfwayWaterSurface is the stage of the profile started half-way
+	// between the first and second starts (added after the contract keys).
+	HalfwayWaterSurface Float `json:"halfway_water_surface"`
 }
 
 type jsonProfile struct {
@@ -60,6 +63,7 @@ type jsonProfile struct {
 	SecondStart    Float                `json:"second_start"`
 	SecondCritical bool                 `json:"second_critical"`
 	Warnings       []string             `json:"warnings"`
+	HalfwayStart   Float                `json:"halfway_start"`
 }
 
 type jsonRead struct {
@@ -113,9 +117,9 @@ type jsonVerification struct {
 // "program", "expansion", "contraction" (the eddy-loss coefficients) and
 // "verification" (null unless asked for). The rating's "hydraulics" holds
 // the section's full hydraulics at every computed stage in the row
-// objects of WriteRatingJSON. Spread is the difference between the
-// profiles from the two boundary stages (length unit). Undefined values
-// are null.
+// objects of WriteRatingJSON. Spread is the larger difference of the
+// profiles from the second and half-way starts from the first (length
+// unit). Undefined values are null.
 func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 	r := rep.Result
 	out := struct {
@@ -181,14 +185,14 @@ func bwJSONBoundary(rep reach.BackwaterReport) jsonBoundary {
 func bwJSONProfile(p reach.SurfaceProfile) jsonProfile {
 	jp := jsonProfile{Discharge: Float(p.Discharge), Sections: make([]jsonProfileSection, len(p.Sections)),
 		Start: Float(p.Start), StartCritical: p.StartCritical, SecondStart: Float(p.SecondStart),
-		SecondCritical: p.SecondCritical, Warnings: nonNil(p.Warnings)}
+		SecondCritical: p.SecondCritical, Warnings: nonNil(p.Warnings), HalfwayStart: Float(p.HalfwayStart)}
 	for j, s := range p.Sections {
 		jp.Sections[j] = jsonProfileSection{ID: s.ID, Distance: Float(s.Distance), WaterSurface: Float(s.WaterSurface),
 			EnergyGrade: Float(s.EnergyGrade), VelocityHead: Float(s.VelocityHead), Froude: Float(s.Froude),
 			Critical: s.Critical, Spread: Float(s.Spread), SecondWaterSurface: Float(s.SecondWaterSurface),
 			Bottom: Float(s.Bottom), Area: Float(s.Area), TopWidth: Float(s.TopWidth), Conveyance: Float(s.Conveyance),
 			Alpha: Float(s.Alpha), Length: Float(s.Length), FrictionLoss: Float(s.FrictionLoss), EddyLoss: Float(s.EddyLoss),
-			Expanding: s.Expanding, Jump: s.Jump}
+			Expanding: s.Expanding, Jump: s.Jump, HalfwayWaterSurface: Float(s.HalfwayWaterSurface)}
 	}
 	return jp
 }
@@ -233,7 +237,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 	bwTextMethod(line, rep)
 
 	line("")
-	line("Rating at %s (%d discharges; spread: difference between the profiles from the two boundary stages)", r.Rating.Section, len(r.Rating.Rows))
+	line("Rating at %s (%d discharges; spread: the larger difference of the profiles from the second and half-way starts)", r.Rating.Section, len(r.Rating.Rows))
 	var rows [][]string
 	for _, rd := range r.Rating.Rows {
 		rows = append(rows, []string{sig(rd.Discharge, 4), fixed(rd.Stage, 3), fixed(rd.Spread, 3), bwFlags(rd.Critical, rd.Unsettled, false)})
@@ -294,6 +298,7 @@ func bwTextMethod(line func(string, ...any), rep reach.BackwaterReport) {
 	line("  eddy loss     %g × the fall of velocity head (expanding), %g × its rise (contracting)", r.Expansion, r.Contraction)
 	line("  boundary      %s, at %s", BackwaterBoundaryWords(rep), last)
 	line("  second start  %s", r.SecondBoundary)
+	line("  third start   half-way between the two")
 	line("  sections      %d, rating read at %s; spread tolerance %g %s", len(rep.Sections), r.Rating.Section, r.Rating.Tolerance, u.Length())
 	if n > 0 {
 		lo, hi := math.Inf(1), math.Inf(-1)
@@ -315,7 +320,7 @@ func bwTextProfile(line func(string, ...any), table func(string, [][]string), p 
 	if p.SecondCritical {
 		second += " (critical depth)"
 	}
-	line("  Q = %s %s: start %s, second start %s", sig(p.Discharge, 4), u.Discharge(), start, second)
+	line("  Q = %s %s: start %s, second start %s, half-way start %s %s", sig(p.Discharge, 4), u.Discharge(), start, second, fixed(p.HalfwayStart, 3), L)
 	var rows [][]string
 	for j, s := range p.Sections {
 		length, hf, he := fixed(s.Length, 1), fixed(s.FrictionLoss, 3), fixed(s.EddyLoss, 3)

@@ -21,13 +21,13 @@ const (
 // report to w. Sheets:
 //
 //   - summary: the reach, program, units, method and its sources, the
-//     boundary and the second start, the eddy-loss coefficients, the
+//     boundary, the second and half-way starts, the eddy-loss coefficients, the
 //     rating section and the spread tolerance, the discharges, how many
 //     reads are unsettled or critical, the warnings and the caution;
 //   - rating: the rating section's full hydraulics at every computed
 //     stage, the sheet of a rate workbook (WriteRatingSheet);
-//   - convergence: each discharge's stage at the rating section from both
-//     boundary stages, their spread, critical and unsettled (marked);
+//   - convergence: each discharge's stage at the rating section from the
+//     three starts, their spread, critical and unsettled (marked);
 //   - profiles: every profile, one row per discharge and section;
 //   - subsections: the rating section's subsections at each stage
 //     (WriteSubsectionSheet);
@@ -78,6 +78,7 @@ func writeBWSummary(b *workbook.Book, rep reach.BackwaterReport) error {
 		{"sections", len(rep.Sections), ""},
 		{"downstream boundary", boundary, ""},
 		{"second start of every profile", r.SecondBoundary, ""},
+		{"third start of every profile", "half-way between the two", ""},
 		{"rating section", r.Rating.Section, ""},
 		{"spread tolerance", num("0.000", r.Rating.Tolerance), u.Length()},
 		{"discharges", len(r.Profiles), ""},
@@ -122,6 +123,7 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "second_stage", Unit: L, Format: "0.000"},
+		{Name: "halfway_stage", Unit: L, Format: "0.000"},
 		{Name: "spread", Unit: L, Format: "0.000"},
 		{Name: "critical", Width: 10},
 		{Name: "unsettled", Width: 10},
@@ -132,11 +134,12 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 	}
 	at := r.Rating.Index
 	for i, rd := range r.Rating.Rows {
-		second := math.NaN()
+		second, halfway := math.NaN(), math.NaN()
 		if i < len(r.Profiles) && at < len(r.Profiles[i].Sections) {
-			second = r.Profiles[i].Sections[at].SecondWaterSurface
+			s := r.Profiles[i].Sections[at]
+			second, halfway = s.SecondWaterSurface, s.HalfwayWaterSurface
 		}
-		vals := []any{rd.Discharge, rd.Stage, second, rd.Spread, yes(rd.Critical), yes(rd.Unsettled)}
+		vals := []any{rd.Discharge, rd.Stage, second, halfway, rd.Spread, yes(rd.Critical), yes(rd.Unsettled)}
 		if rd.Unsettled {
 			for k := range vals {
 				if vals[k], err = b.Marked(cols[k].Format, vals[k]); err != nil {
