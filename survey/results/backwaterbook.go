@@ -21,9 +21,10 @@ const (
 // report to w. Sheets:
 //
 //   - summary: the reach, program, units, method and its sources, the
-//     boundary, the second and half-way starts, the eddy-loss coefficients, the
-//     rating section and the spread tolerance, the discharges, how many
-//     reads are unsettled or critical, the warnings and the caution;
+//     boundary, the second and half-way starts, the eddy-loss
+//     coefficients, the rating section and the spread tolerance, the
+//     discharges, how many reads are unsettled or critical, the warnings
+//     and the caution;
 //   - rating: the rating section's full hydraulics at every computed
 //     stage, the sheet of a rate workbook (WriteRatingSheet);
 //   - convergence: each discharge's stage at the rating section from the
