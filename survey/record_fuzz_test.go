@@ -32,6 +32,8 @@ func checkPositioned(t *testing.T, err error, file string) {
 // errors, never a panic. Seeds in testdata/fuzz/FuzzParseStageRecord.
 func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,stage\n2024-05-01T00:00,1.2\n2024-05-01T00:15,1.3\n", int8(0))
+	f.Add("time,stage (ft)\n2024-05-01T00:00,1.2\n", int8(0))
+	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
 		off := time.Duration(offsetHours%15) * time.Hour
 		r, err := ParseStageRecord(strings.NewReader(in), "f.csv", StageRecordOptions{UTCOffset: off})
@@ -113,6 +115,8 @@ func FuzzParseDecimal(f *testing.F) {
 // testdata/fuzz/FuzzParseShiftDiagrams.
 func FuzzParseShiftDiagrams(f *testing.F) {
 	f.Add("time,stage,shift,taper,abrupt\n2024-03-01,0.5,0.1,1.5,\n")
+	f.Add("time,stage (ft),shift (ft),taper (m),abrupt\n2024-03-01,0.5,0.1,1.5,\n")
+	f.Add("time,stage [m],shift (m)\n2024-03-01,,0.1\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		ds, err := ParseShiftDiagrams(strings.NewReader(in), "f.csv", ShiftTableOptions{})
 		checkPositioned(t, err, "f.csv")
