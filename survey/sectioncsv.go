@@ -7,22 +7,26 @@ import (
 	"strconv"
 	"strings"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
-// WriteSectionCSV writes a section as a survey CSV that ReadSection reads
-// back to the same section: comment lines (each prefixed "# "), then the
-// columns station, elevation, n (when the section has n per segment) and
-// mark, with "bank" on the points at the bank stations. Numbers are
-// written exactly (shortest form that reads back to the same float64).
-func WriteSectionCSV(w io.Writer, s subdivide.Section, comments []string) error {
+// WriteSectionCSV writes a section whose lengths are in the unit system u
+// as a survey CSV that ReadSection reads back to the same section, in the
+// same unit system: comment lines (each prefixed "# "), then the columns
+// station and elevation with their unit ("station (ft)"), n (when the
+// section has n per segment) and mark, with "bank" on the points at the
+// bank stations. Numbers are written exactly (shortest form that reads
+// back to the same float64).
+func WriteSectionCSV(w io.Writer, s subdivide.Section, u rating.Units, comments []string) error {
 	bw := bufio.NewWriter(w)
 	for _, c := range comments {
 		for _, line := range strings.Split(c, "\n") {
 			bw.WriteString("# " + line + "\n")
 		}
 	}
-	cols := []string{ColStation, ColElevation}
+	L := " (" + u.Length() + ")"
+	cols := []string{ColStation + L, ColElevation + L}
 	if s.N != nil {
 		cols = append(cols, ColN)
 	}

@@ -5,11 +5,13 @@ import (
 	"reflect"
 	"testing"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
 // TestWriteSectionCSV: a section written as a survey reads back to the
-// same points, n and banks (numbers are written exactly).
+// same points, n and banks (numbers are written exactly), and in the unit
+// system it was written in: the headers carry the unit.
 func TestWriteSectionCSV(t *testing.T) {
 	sec := subdivide.Section{
 		Name: "built",
@@ -18,17 +20,23 @@ func TestWriteSectionCSV(t *testing.T) {
 		N:        []float64{0.06, 0.06, 0.035, 0.035, 0.035, 0.06},
 		HasBanks: true, LeftBank: 24.5, RightBank: 29.5,
 	}
-	var buf bytes.Buffer
-	if err := WriteSectionCSV(&buf, sec, []string{"two lines\nof comment"}); err != nil {
-		t.Fatal(err)
-	}
-	sv, err := ParseSection(&buf, "built.csv", SectionOptions{})
-	if err != nil {
-		t.Fatalf("%v\n%s", err, buf.String())
-	}
-	got := sv.Section
-	got.Name = sec.Name
-	if !reflect.DeepEqual(got, sec) {
-		t.Errorf("read back %+v\nwant %+v", got, sec)
+	for _, u := range []rating.Units{rating.SI, rating.US} {
+		var buf bytes.Buffer
+		if err := WriteSectionCSV(&buf, sec, u, []string{"two lines\nof comment"}); err != nil {
+			t.Fatal(err)
+		}
+		text := buf.String()
+		sv, err := ParseSection(&buf, "built.csv", SectionOptions{})
+		if err != nil {
+			t.Fatalf("%v\n%s", err, text)
+		}
+		if !sv.Units.Found || sv.Units.Units != u {
+			t.Errorf("%v: read back in %+v\n%s", u, sv.Units, text)
+		}
+		got := sv.Section
+		got.Name = sec.Name
+		if !reflect.DeepEqual(got, sec) {
+			t.Errorf("%v: read back %+v\nwant %+v", u, got, sec)
+		}
 	}
 }

@@ -63,7 +63,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 		"Caution: "+rating.Caution,
 	)
 	return e.deliver(delivery{output: *out, inline: true,
-		write: func(w io.Writer) error { return survey.WriteSectionCSV(w, sec, comments) },
+		write: func(w io.Writer) error { return survey.WriteSectionCSV(w, sec, u, comments) },
 		summary: func(w io.Writer) error {
 			_, err := fmt.Fprintf(w, "wrote %s: %d points of %s\n", *out, len(sec.Points), sh.String())
 			return err

@@ -138,3 +138,30 @@ func TestShapeSurveyRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+// TestShapeSurveyUnits: a shape written in feet says so in its headers,
+// so it rates in feet (US Manning constant 1.486) without --units, exactly
+// as the shape given with --units us, and --units si is refused naming the
+// column.
+func TestShapeSurveyUnits(t *testing.T) {
+	t.Parallel()
+	path := filepath.Join(t.TempDir(), "built-ft.csv")
+	const spec, n = "trapezoid:bottom=10,side=2", "0.03"
+	if _, errs, code := runCLI(t, "shape", spec, "--n", n, "--units", "us", "-o", path); code != 0 {
+		t.Fatal(errs)
+	}
+	fromFile, errs, code := runCLI(t, "rate", path, "--slope", "0.001")
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	fromShape, errs, code := runCLI(t, "rate", "--shape", spec, "--n", n, "--slope", "0.001", "--units", "us")
+	if code != 0 {
+		t.Fatal(errs)
+	}
+	if !sameCSVNumbers(fromFile, fromShape) {
+		t.Errorf("rating of the feet survey differs from the shape in feet:\n%s\n%s", fromFile, fromShape)
+	}
+	if _, errs, code := runCLI(t, "rate", path, "--slope", "0.001", "--units", "si"); code != 1 || !strings.Contains(errs, "built-ft.csv") || !strings.Contains(errs, "station (ft)") {
+		t.Errorf("--units si on a feet survey: exit %d: %s", code, errs)
+	}
+}
