@@ -215,34 +215,9 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	if len(f.stages) > 0 && fs.Changed("step") {
 		return usagef("compare: give --stages or --step, not both")
 	}
-	var ps [2]*survey.Prepared
-	var inputs, warnings []string
-	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
-		choice, err := unitChoice(f.units, fs.Changed("units"))
-		if err != nil {
-			return err
-		}
-		co, err := f.coords.options(fs, choice)
-		if err != nil {
-			return err
-		}
-		req := survey.SectionRequest{Path: in.path, Sheet: in.sheet, Units: choice.Units, UnitsGiven: choice.Given, Coordinates: co}
-		if i == 1 { // B in the units of A
-			req.Units, req.UnitsGiven = ps[0].Units, true
-		}
-		if len(f.n) > 0 {
-			req.N = f.n
-		}
-		p, err := survey.Prepare(req)
-		if err != nil {
-			if errors.Is(err, survey.ErrRequest) {
-				return usageError{err: err}
-			}
-			return err
-		}
-		ps[i] = p
-		inputs = append(inputs, p.Inputs...)
-		warnings = append(warnings, p.Warnings...) // each names its file
+	ps, inputs, warnings, err := f.readSurveys(fs, a, b)
+	if err != nil {
+		return err
 	}
 	stages, err := f.sectionStages(ps[0].Geometry, ps[1].Geometry)
 	if err != nil {
@@ -270,6 +245,41 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	}[format]
 	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) },
 		"two surveys of one section", len(c.Rows))
+}
+
+// readSurveys reads surveys a and b, B in the units of A, and returns
+// them with the files read and the readers' warnings (each names its file).
+func (f *compareFlags) readSurveys(fs *flagSet, a, b string) ([2]*survey.Prepared, []string, []string, error) {
+	var ps [2]*survey.Prepared
+	var inputs, warnings []string
+	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
+		choice, err := unitChoice(f.units, fs.Changed("units"))
+		if err != nil {
+			return ps, nil, nil, err
+		}
+		co, err := f.coords.options(fs, choice)
+		if err != nil {
+			return ps, nil, nil, err
+		}
+		req := survey.SectionRequest{Path: in.path, Sheet: in.sheet, Units: choice.Units, UnitsGiven: choice.Given, Coordinates: co}
+		if i == 1 {
+			req.Units, req.UnitsGiven = ps[0].Units, true
+		}
+		if len(f.n) > 0 {
+			req.N = f.n
+		}
+		p, err := survey.Prepare(req)
+		if err != nil {
+			if errors.Is(err, survey.ErrRequest) {
+				return ps, nil, nil, usageError{err: err}
+			}
+			return ps, nil, nil, err
+		}
+		ps[i] = p
+		inputs = append(inputs, p.Inputs...)
+		warnings = append(warnings, p.Warnings...)
+	}
+	return ps, inputs, warnings, nil
 }
 
 // sectionStages are the stages of a comparison of two surveys: --stages,

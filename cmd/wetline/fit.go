@@ -138,20 +138,15 @@ func runFit(ctx context.Context, e *env, args []string) error {
 // analyze reads the gaugings at path (and the section, hydraulic rating
 // table and crest section, when given) and computes the gaugings report.
 func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, error) {
-	inputs := []string{path}
-	choice, err := f.unitSystem()
+	// The gaugings' headers set the units unless --units did; then the
+	// hydraulic rating table's, read before the sections for that.
+	d, err := decideUnits(f.units, f.fs != nil && f.fs.Changed("units"))
 	if err != nil {
 		return nil, err
 	}
 	gs, err := survey.ReadGaugings(path, f.gaugingSheet)
 	if err != nil {
 		return nil, err
-	}
-	// The gaugings' headers set the units unless --units did; then the
-	// hydraulic rating table's, read before the sections for that.
-	d := unitsDecided{UnitChoice: choice}
-	if choice.Given {
-		d.by = "--units"
 	}
 	if err := d.take(gs.Units, path); err != nil {
 		return nil, err
@@ -163,34 +158,29 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 			return nil, err
 		}
 	}
-	units := d.Units
-	opt.Units = units
-	warnings := append([]string(nil), gs.Warnings...)
-	site := gs.Site
-	ropt := rating.Options{Slope: f.slope, Units: units, Geometry: f.geometry()}
+	opt.Units = d.Units
+	in := fitInputs{inputs: []string{path}, warnings: append([]string(nil), gs.Warnings...), site: gs.Site}
+	ropt := rating.Options{Slope: f.slope, Units: d.Units, Geometry: f.geometry()}
 	if f.section != "" {
-		p, err := f.prepareIn(f.section, units)
+		p, err := f.prepareIn(f.section, d.Units)
 		if err != nil {
 			return nil, err
 		}
-		inputs = append(inputs, p.Inputs...)
-		warnings = append(warnings, p.Warnings...)
+		in.add(p.Inputs, p.Warnings)
 		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 		opt.Site = p.Survey.Section.Name
-		site = site.Merge(p.Site)
+		in.site = in.site.Merge(p.Site)
 	}
 	if table != nil {
-		inputs = append(inputs, f.hydraulicTable)
-		warnings = append(warnings, tableWarnings...)
+		in.add([]string{f.hydraulicTable}, tableWarnings)
 		opt.HydraulicTable = table
 	}
 	if f.controlSection != "" {
-		p, err := survey.Prepare(survey.SectionRequest{Path: f.controlSection, Units: units, UnitsGiven: true})
+		p, err := survey.Prepare(survey.SectionRequest{Path: f.controlSection, Units: d.Units, UnitsGiven: true})
 		if err != nil {
 			return nil, err
 		}
-		inputs = append(inputs, p.Inputs...)
-		warnings = append(warnings, p.Warnings...)
+		in.add(p.Inputs, p.Warnings)
 		opt.Crest = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 	}
 	if opt.Site == "" {
@@ -200,9 +190,21 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
-	rep.Warnings = append(warnings, rep.Warnings...)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(site, f.site)}
+	rep.Warnings = append(in.warnings, rep.Warnings...)
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: in.inputs, Site: siteWith(in.site, f.site)}
 	return rep, nil
+}
+
+// fitInputs gathers what fit read: the files, their readers' warnings and
+// what they say of the site.
+type fitInputs struct {
+	inputs, warnings []string
+	site             rating.Site
+}
+
+func (in *fitInputs) add(files, warnings []string) {
+	in.inputs = append(in.inputs, files...)
+	in.warnings = append(in.warnings, warnings...)
 }
 
 // readHydraulicTable reads a hydraulic rating table at gauge heights

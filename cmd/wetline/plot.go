@@ -13,36 +13,58 @@ import (
 
 const plotUsage = "plot TABLE.csv [--section SURVEY [--n N] [--banks A,B]] [--units si|us] [--zero-flow E] [--datum D] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
 
+// plotFlags are the flags of plot.
+type plotFlags struct {
+	sectionFlags
+	section            string
+	zeroFlow, datum    float64
+	width, height, dpi int
+	output             string
+}
+
+func (f *plotFlags) register(fs *flagSet) {
+	f.sectionFlags.register(fs)
+	fs.StringVar(&f.section, "section", "", "surveyed cross-section of the table, for the section figure")
+	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
+	fs.Float64Var(&f.datum, "datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
+	fs.IntVar(&f.width, "width", plotting.DefaultWidth, "figure width in pixels")
+	fs.IntVar(&f.height, "height", plotting.DefaultHeight, "figure height in pixels")
+	fs.IntVar(&f.dpi, "dpi", plotting.DefaultDPI, "figure resolution in dots per inch (text keeps its size in points)")
+	fs.StringVarP(&f.output, "output", "o", "", "folder for the PNG files (default: the table's folder)")
+}
+
+// size checks the figure size flags.
+func (f *plotFlags) size(fs *flagSet) (plotting.Size, error) {
+	if err := fs.positive("width", "height", "dpi"); err != nil {
+		return plotting.Size{}, err
+	}
+	if err := fs.within(survey.MaxElevation, "datum", "zero-flow"); err != nil {
+		return plotting.Size{}, err
+	}
+	size := plotting.Size{Width: f.width, Height: f.height, DPI: f.dpi}
+	if err := size.Check(); err != nil {
+		return size, usageError{err: err}
+	}
+	return size, nil
+}
+
 func runPlot(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("plot", plotUsage)
-	var sf sectionFlags
-	sf.register(fs)
-	section := fs.String("section", "", "surveyed cross-section of the table, for the section figure")
-	zeroFlow := fs.Float64("zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
-	datum := fs.Float64("datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
-	width := fs.Int("width", plotting.DefaultWidth, "figure width in pixels")
-	height := fs.Int("height", plotting.DefaultHeight, "figure height in pixels")
-	dpi := fs.Int("dpi", plotting.DefaultDPI, "figure resolution in dots per inch (text keeps its size in points)")
-	out := fs.StringP("output", "o", "", "folder for the PNG files (default: the table's folder)")
+	var f plotFlags
+	f.register(fs)
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
 	if fs.NArg() != 1 {
 		return usagef("plot: want one TABLE file (a rating CSV written by 'wetline rate'), got %d arguments", fs.NArg())
 	}
-	u, err := sf.unitSystem()
+	u, err := f.unitSystem()
 	if err != nil {
 		return err
 	}
-	if err := fs.positive("width", "height", "dpi"); err != nil {
+	size, err := f.size(fs)
+	if err != nil {
 		return err
-	}
-	if err := fs.within(survey.MaxElevation, "datum", "zero-flow"); err != nil {
-		return err
-	}
-	size := plotting.Size{Width: *width, Height: *height, DPI: *dpi}
-	if err := size.Check(); err != nil {
-		return usageError{err: err}
 	}
 	path := fs.Arg(0)
 	t, err := survey.ReadRatingCSV(path, "", u)
@@ -50,31 +72,30 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	if fs.Changed("datum") {
-		t.GaugeHeights, t.Datum = true, *datum
+		t.GaugeHeights, t.Datum = true, f.datum
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)
-	in := plotting.RatingFigures{Site: sf.site, Base: figureBase(t.Name), Table: t, ZeroFlow: *zeroFlow, Size: size,
+	in := plotting.RatingFigures{Site: f.site, Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
-	if *section != "" {
-		p, err := sf.prepareIn(*section, t.Units)
+	if f.section != "" {
+		p, err := f.prepareIn(f.section, t.Units)
 		if err != nil {
 			return err
 		}
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
-		in.Ground, in.Geometry = p.Ground, sf.geometry()
-		in.Site = siteWith(p.Site, sf.site).Name
+		in.Ground, in.Geometry = p.Ground, f.geometry()
+		in.Site = siteWith(p.Site, f.site).Name
 	}
 	figs, w, err := plotting.DrawRating(in)
 	if err != nil {
 		return err
 	}
-	warnings = append(warnings, w...)
-	dir := *out
+	dir := f.output
 	if dir == "" {
 		dir = filepath.Dir(path)
 	}
-	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: warnings,
+	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: append(warnings, w...),
 		write: func(io.Writer) error { return nil }})
 }

@@ -136,46 +136,17 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	var inputs, warnings []string
 	var periods []datedPeriod
 	for k, s := range hf.ratings {
-		spec, err := hf.parseRatingSpec(s)
+		ps, path, warns, err := hf.ratingPeriods(k, s, &d)
 		if err != nil {
 			return h, nil, nil, err
 		}
-		if spec.none {
-			periods = append(periods, datedPeriod{gauged.Period{From: spec.from}, s})
-			continue
+		if path != "" {
+			inputs = append(inputs, path)
 		}
-		opt := survey.RatingTableOptions{Sheet: hf.ratingSheet, Extrapolate: hf.extrapolate, Datum: hf.datum, From: spec.from,
-			UTCOffset: time.Duration(hf.offset)}
-		opt.ZeroFlow, opt.HasZeroFlow = perRating(hf.zeroFlow, k)
-		opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, k)
-		rt, err := survey.ReadRatingTables(spec.path, opt)
-		if err != nil {
-			return h, nil, nil, err
-		}
-		if err := d.take(rt.Units, spec.path); err != nil {
-			return h, nil, nil, err
-		}
-		if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
-			return h, nil, nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
-				hf.cmd, s, spec.path, survey.ColRatingValidFrom)
-		}
-		inputs = append(inputs, spec.path)
-		warnings = append(warnings, rt.Warnings...)
-		for _, p := range rt.Periods {
-			periods = append(periods, datedPeriod{p, s})
-		}
+		periods, warnings = append(periods, ps...), append(warnings, warns...)
 	}
-	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
-	for i, p := range periods {
-		if i > 0 && p.From.Equal(periods[i-1].From) {
-			when := "from the beginning"
-			if !p.From.IsZero() {
-				when = "at " + p.From.Format(time.RFC3339)
-			}
-			return h, nil, nil, usagef("%s: --rating %s and --rating %s both come into force %s: give each later rating its time, FILE@TIME",
-				hf.cmd, periods[i-1].spec, p.spec, when)
-		}
-		h.Periods = append(h.Periods, p.Period)
+	if h.Periods, err = hf.inOrder(periods); err != nil {
+		return h, nil, nil, err
 	}
 	if hf.shifts != "" {
 		ds, err := survey.ReadShiftDiagrams(hf.shifts, survey.ShiftTableOptions{Sheet: hf.shiftsSheet, UTCOffset: time.Duration(hf.offset)})
@@ -192,6 +163,58 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	}
 	hf.decided, hf.unitSystem = d, d.Units
 	return h, inputs, warnings, nil
+}
+
+// ratingPeriods reads the k-th --rating, s: the periods it holds (one
+// without a rating for none@TIME), the file read ("" for none) and the
+// reader's warnings. The units of its headers are resolved into d.
+func (hf *historyFlags) ratingPeriods(k int, s string, d *unitsDecided) ([]datedPeriod, string, []string, error) {
+	spec, err := hf.parseRatingSpec(s)
+	if err != nil {
+		return nil, "", nil, err
+	}
+	if spec.none {
+		return []datedPeriod{{gauged.Period{From: spec.from}, s}}, "", nil, nil
+	}
+	opt := survey.RatingTableOptions{Sheet: hf.ratingSheet, Extrapolate: hf.extrapolate, Datum: hf.datum, From: spec.from,
+		UTCOffset: time.Duration(hf.offset)}
+	opt.ZeroFlow, opt.HasZeroFlow = perRating(hf.zeroFlow, k)
+	opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, k)
+	rt, err := survey.ReadRatingTables(spec.path, opt)
+	if err != nil {
+		return nil, "", nil, err
+	}
+	if err := d.take(rt.Units, spec.path); err != nil {
+		return nil, "", nil, err
+	}
+	if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
+		return nil, "", nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
+			hf.cmd, s, spec.path, survey.ColRatingValidFrom)
+	}
+	out := make([]datedPeriod, len(rt.Periods))
+	for i, p := range rt.Periods {
+		out[i] = datedPeriod{p, s}
+	}
+	return out, spec.path, rt.Warnings, nil
+}
+
+// inOrder puts the rating periods in time order; two coming into force at
+// one time are a usage error naming both --rating.
+func (hf *historyFlags) inOrder(periods []datedPeriod) ([]gauged.Period, error) {
+	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
+	out := make([]gauged.Period, 0, len(periods))
+	for i, p := range periods {
+		if i > 0 && p.From.Equal(periods[i-1].From) {
+			when := "from the beginning"
+			if !p.From.IsZero() {
+				when = "at " + p.From.Format(time.RFC3339)
+			}
+			return nil, usagef("%s: --rating %s and --rating %s both come into force %s: give each later rating its time, FILE@TIME",
+				hf.cmd, periods[i-1].spec, p.spec, when)
+		}
+		out = append(out, p.Period)
+	}
+	return out, nil
 }
 
 // tableUnits resolves the units of a table's headers (the gaugings, the
