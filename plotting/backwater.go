@@ -91,27 +91,7 @@ func BackwaterProfiles(w io.Writer, r BackwaterPlot) (Result, error) {
 	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
 	ext := newExtent()
 	leg := &legendLabels{legend: &p.Legend}
-	labelled := make([]ReachSection, len(secs))
-	var bed plotter.XYs
-	for i, s := range secs {
-		labelled[i] = ReachSection{ID: s.ID, Distance: s.Distance}
-		if s.ID == r.At && r.At != "" {
-			labelled[i].ID = s.ID + " (rating)"
-		}
-		if t := s.thalweg(); finite(t.Elevation) {
-			bed = append(bed, plotter.XY{X: s.Distance, Y: t.Elevation})
-			ext.add(t.Elevation)
-		}
-	}
-	p.Add(sectionTicks{secs: labelled})
-	if len(bed) > 0 {
-		if l, sc, err := plotter.NewLinePoints(bed); err == nil {
-			l.LineStyle = lineStyle(colGround, 2.2)
-			sc.GlyphStyle = draw.GlyphStyle{Color: colGround, Radius: vg.Points(3.2), Shape: draw.BoxGlyph{}}
-			p.Add(l, sc)
-			leg.add("thalweg (lowest ground)", l, sc)
-		}
-	}
+	addReachBed(p, leg, secs, r.At, ext)
 	res.Warnings = append(res.Warnings, addProfiles(p, leg, r.Profiles, un, ext)...)
 	res.Warnings = append(res.Warnings, addMarks(p, leg, secs, ext)...)
 	lo, hi := ext.lo, ext.hi
@@ -136,6 +116,32 @@ func BackwaterProfiles(w io.Writer, r BackwaterPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// addReachBed names the sections along the distance axis (the rating
+// section marked so) and draws the thalweg line through them.
+func addReachBed(p *plot.Plot, leg *legendLabels, secs []ReachSection, at string, ext *extent) {
+	labelled := make([]ReachSection, len(secs))
+	var bed plotter.XYs
+	for i, s := range secs {
+		labelled[i] = ReachSection{ID: s.ID, Distance: s.Distance}
+		if s.ID == at && at != "" {
+			labelled[i].ID = s.ID + " (rating)"
+		}
+		if t := s.thalweg(); finite(t.Elevation) {
+			bed = append(bed, plotter.XY{X: s.Distance, Y: t.Elevation})
+			ext.add(t.Elevation)
+		}
+	}
+	p.Add(sectionTicks{secs: labelled})
+	if len(bed) > 0 {
+		if l, sc, err := plotter.NewLinePoints(bed); err == nil {
+			l.LineStyle = lineStyle(colGround, 2.2)
+			sc.GlyphStyle = draw.GlyphStyle{Color: colGround, Radius: vg.Points(3.2), Shape: draw.BoxGlyph{}}
+			p.Add(l, sc)
+			leg.add("thalweg (lowest ground)", l, sc)
+		}
+	}
 }
 
 // MaxLegendShare is the largest share of a figure's width given to a
@@ -213,23 +219,7 @@ func addProfiles(pl *plot.Plot, leg *legendLabels, profiles []ProfileLine, un un
 	k := 0
 	for _, i := range order {
 		pr := profiles[i]
-		var ws, egl plotter.XYs
-		pts := append([]ProfilePoint(nil), pr.Points...)
-		sort.SliceStable(pts, func(a, b int) bool { return pts[a].Distance < pts[b].Distance })
-		for _, q := range pts {
-			if !finite(q.Distance, q.WaterSurface) {
-				continue
-			}
-			ws = append(ws, plotter.XY{X: q.Distance, Y: q.WaterSurface})
-			ext.add(q.WaterSurface)
-			if q.Critical {
-				crit = append(crit, plotter.XY{X: q.Distance, Y: q.WaterSurface})
-			}
-			if pr.Verified && finite(q.EnergyGrade) {
-				egl = append(egl, plotter.XY{X: q.Distance, Y: q.EnergyGrade})
-				ext.add(q.EnergyGrade)
-			}
-		}
+		ws, egl := profileXYs(pr, &crit, ext)
 		if len(ws) < 2 {
 			warnings = append(warnings, fmt.Sprintf("the profile of %s %s has fewer than two points: left out", fmtNum(pr.Discharge), un.discharge))
 			continue
@@ -240,16 +230,7 @@ func addProfiles(pl *plot.Plot, leg *legendLabels, profiles []ProfileLine, un un
 		}
 		label := fmt.Sprintf("water surface, Q = %s %s", fmtNum(pr.Discharge), un.discharge)
 		if pr.Verified {
-			l.LineStyle = lineStyle(colFitted, 2.6)
-			pl.Add(l)
-			leg.add(label+" (verification)", l)
-			if len(egl) > 1 {
-				if e, err := plotter.NewLine(egl); err == nil {
-					e.LineStyle = lineStyle(colEnergy, 1.6, vg.Points(8), vg.Points(4))
-					pl.Add(e)
-					leg.add("its energy grade line", e)
-				}
-			}
+			addVerifiedProfile(pl, leg, l, egl, label)
 			continue
 		}
 		l.LineStyle = lineStyle(profileColor(k, plain), 1.6)
@@ -267,6 +248,44 @@ func addProfiles(pl *plot.Plot, leg *legendLabels, profiles []ProfileLine, un un
 		}
 	}
 	return warnings
+}
+
+// profileXYs returns a profile's water surface and, for the verified
+// profile, its energy grade line, downstream in distance; stages at
+// critical depth are added to crit and every value drawn to ext.
+func profileXYs(pr ProfileLine, crit *plotter.XYs, ext *extent) (ws, egl plotter.XYs) {
+	pts := append([]ProfilePoint(nil), pr.Points...)
+	sort.SliceStable(pts, func(a, b int) bool { return pts[a].Distance < pts[b].Distance })
+	for _, q := range pts {
+		if !finite(q.Distance, q.WaterSurface) {
+			continue
+		}
+		ws = append(ws, plotter.XY{X: q.Distance, Y: q.WaterSurface})
+		ext.add(q.WaterSurface)
+		if q.Critical {
+			*crit = append(*crit, plotter.XY{X: q.Distance, Y: q.WaterSurface})
+		}
+		if pr.Verified && finite(q.EnergyGrade) {
+			egl = append(egl, plotter.XY{X: q.Distance, Y: q.EnergyGrade})
+			ext.add(q.EnergyGrade)
+		}
+	}
+	return ws, egl
+}
+
+// addVerifiedProfile draws the verified profile heavy, with its energy
+// grade line dashed.
+func addVerifiedProfile(pl *plot.Plot, leg *legendLabels, l *plotter.Line, egl plotter.XYs, label string) {
+	l.LineStyle = lineStyle(colFitted, 2.6)
+	pl.Add(l)
+	leg.add(label+" (verification)", l)
+	if len(egl) > 1 {
+		if e, err := plotter.NewLine(egl); err == nil {
+			e.LineStyle = lineStyle(colEnergy, 1.6, vg.Points(8), vg.Points(4))
+			pl.Add(e)
+			leg.add("its energy grade line", e)
+		}
+	}
 }
 
 // addMarks draws the high-water marks of the sections on p, by bank.

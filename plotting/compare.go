@@ -207,7 +207,6 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 	addGrid(right)
 	right.Add(zeroLine{vertical: true})
 	var area, conv plotter.XYs
-	var bases, pcts []float64
 	for _, r := range c.Rows {
 		if r.A.Area > 0 && finite(r.Difference.Area) {
 			area = append(area, plotter.XY{X: 100 * r.Difference.Area / r.A.Area, Y: r.Stage})
@@ -216,21 +215,7 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 			conv = append(conv, plotter.XY{X: r.ConveyancePercent, Y: r.Stage})
 		}
 	}
-	// The axis follows the larger of the two percents at each stage, each
-	// against its own base.
-	areaTop, convTop := 0.0, 0.0
-	for _, r := range c.Rows {
-		areaTop, convTop = math.Max(areaTop, r.A.Area), math.Max(convTop, r.A.Conveyance)
-	}
-	for _, r := range c.Rows {
-		if r.A.Area > 0 {
-			bases, pcts = append(bases, r.A.Area/areaTop), append(pcts, 100*r.Difference.Area/r.A.Area)
-		}
-		if finite(r.ConveyancePercent) && convTop > 0 {
-			bases, pcts = append(bases, r.A.Conveyance/convTop), append(pcts, r.ConveyancePercent)
-		}
-	}
-	plo, phi, clipped := percentRange(bases, pcts)
+	plo, phi, clipped := differenceRange(c.Rows)
 	addLine(right, area, "area", lineStyle(colWater, 1.8))
 	addLine(right, conv, "conveyance", lineStyle(colHydraulic, 1.8, vg.Points(6), vg.Points(3)))
 	right.Legend.Top = true
@@ -253,4 +238,24 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 		return nil
 	})
 	return res, err
+}
+
+// differenceRange is the percent axis of the differences: it follows the
+// larger of the area and conveyance percents at each stage, each weighed
+// by its own base against the largest (see percentRange).
+func differenceRange(rows []rating.SectionDifference) (lo, hi float64, clipped bool) {
+	var bases, pcts []float64
+	areaTop, convTop := 0.0, 0.0
+	for _, r := range rows {
+		areaTop, convTop = math.Max(areaTop, r.A.Area), math.Max(convTop, r.A.Conveyance)
+	}
+	for _, r := range rows {
+		if r.A.Area > 0 {
+			bases, pcts = append(bases, r.A.Area/areaTop), append(pcts, 100*r.Difference.Area/r.A.Area)
+		}
+		if finite(r.ConveyancePercent) && convTop > 0 {
+			bases, pcts = append(bases, r.A.Conveyance/convTop), append(pcts, r.ConveyancePercent)
+		}
+	}
+	return percentRange(bases, pcts)
 }

@@ -77,19 +77,7 @@ func Plan(w io.Writer, pp PlanPlot) (Result, error) {
 	p.Legend.Add("points surveyed", sc)
 	p.Add(planLabels{pp: pp, endE: endE, endN: endN})
 
-	// Equal scales: both axes span the same distance around the points,
-	// and setEqualScale widens one to fit the panel's shape.
-	xlo, xhi := math.Min(pp.OriginE, endE), math.Max(pp.OriginE, endE)
-	ylo, yhi := math.Min(pp.OriginN, endN), math.Max(pp.OriginN, endN)
-	for _, q := range xys {
-		xlo, xhi = math.Min(xlo, q.X), math.Max(xhi, q.X)
-		ylo, yhi = math.Min(ylo, q.Y), math.Max(yhi, q.Y)
-	}
-	span := math.Max(math.Max(xhi-xlo, yhi-ylo), 1e-6) * 1.15
-	cx, cy := (xlo+xhi)/2, (ylo+yhi)/2
-	p.X.Min, p.X.Max = cx-span/2, cx+span/2
-	p.Y.Min, p.Y.Max = cy-span/2, cy+span/2
-	p.X.Padding, p.Y.Padding = 0, 0
+	squareAround(p, xys, plotter.XY{X: pp.OriginE, Y: pp.OriginN}, plotter.XY{X: endE, Y: endN})
 	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
 	p.Legend.Top, p.Legend.Left = true, true
 
@@ -105,6 +93,23 @@ func Plan(w io.Writer, pp PlanPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// squareAround gives both axes of p the same span around the points and
+// the line's two ends (setEqualScale then widens one to fit the panel's
+// shape, for equal scales).
+func squareAround(p *plot.Plot, xys plotter.XYs, a, b plotter.XY) {
+	xlo, xhi := math.Min(a.X, b.X), math.Max(a.X, b.X)
+	ylo, yhi := math.Min(a.Y, b.Y), math.Max(a.Y, b.Y)
+	for _, q := range xys {
+		xlo, xhi = math.Min(xlo, q.X), math.Max(xhi, q.X)
+		ylo, yhi = math.Min(ylo, q.Y), math.Max(yhi, q.Y)
+	}
+	span := math.Max(math.Max(xhi-xlo, yhi-ylo), 1e-6) * 1.15
+	cx, cy := (xlo+xhi)/2, (ylo+yhi)/2
+	p.X.Min, p.X.Max = cx-span/2, cx+span/2
+	p.Y.Min, p.Y.Max = cy-span/2, cy+span/2
+	p.X.Padding, p.Y.Padding = 0, 0
 }
 
 // setEqualScale widens the axis whose data span is short for the panel's

@@ -667,16 +667,7 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 				continue
 			}
 			s.GlyphStyle = gaugingStyle(q)
-			label := "gauging, " + qualityName(q)
-			switch set := pcts[gaugingKey{q, excluded}]; len(set) {
-			case 0:
-			case 1:
-				for pct := range set {
-					label += fmt.Sprintf(" (±%g %%)", pct)
-				}
-			default:
-				label += " (± its uncertainty)"
-			}
+			label := gaugingLabel(q, pcts[gaugingKey{q, excluded}])
 			if excluded {
 				s.GlyphStyle = hollowStyle(q)
 				label = "gauging left out of the fit (hollow)"
@@ -689,6 +680,23 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 		}
 	}
 	return n
+}
+
+// gaugingLabel is the legend label of the gaugings of quality q whose
+// error bars have the half-widths pcts (percent): one is written out,
+// several are said to vary.
+func gaugingLabel(q rating.Quality, pcts map[float64]bool) string {
+	label := "gauging, " + qualityName(q)
+	switch len(pcts) {
+	case 0:
+	case 1:
+		for pct := range pcts {
+			label += fmt.Sprintf(" (±%g %%)", pct)
+		}
+	default:
+		label += " (± its uncertainty)"
+	}
+	return label
 }
 
 type hbar struct {

@@ -320,30 +320,9 @@ func ReachSections(w io.Writer, r ReachPlot) (Result, error) {
 			res.Warnings = append(res.Warnings, fmt.Sprintf("section %s has no ground line: left out of the overlay", s.ID))
 			continue
 		}
-		sty := seriesStyles[i%len(seriesStyles)]
-		t := s.thalweg()
-		xy := make(plotter.XYs, len(ground))
-		shifted := make([]subdivide.Point, len(ground))
-		for k, q := range ground {
-			xy[k] = plotter.XY{X: q.Station - t.Station, Y: q.Elevation}
-			shifted[k] = subdivide.Point{Station: q.Station - t.Station, Elevation: q.Elevation}
-			lo, hi = math.Min(lo, q.Elevation), math.Max(hi, q.Elevation)
+		if addOverlaidSection(p, i, s, ground, un, &lo, &hi) {
+			drawn++
 		}
-		l, err := plotter.NewLine(xy)
-		if err != nil {
-			continue
-		}
-		l.LineStyle = lineStyle(sty.color, 1.8, sty.dashes...)
-		sc, _ := plotter.NewScatter(xy)
-		sc.GlyphStyle = draw.GlyphStyle{Color: sty.color, Radius: vg.Points(2.6), Shape: sty.glyph}
-		p.Add(l, sc)
-		label := fmt.Sprintf("%s at %s %s, water surface %s", orDefault(s.ID, fmt.Sprintf("section %d", i+1)),
-			fmtNum(s.Distance), un.length, fmtStage(s.WaterSurface))
-		p.Legend.Add(label, l, sc)
-		pools := wetPools(shifted, s.WaterSurface, true)
-		p.Add(waterLine{pools: pools, stage: s.WaterSurface, style: lineStyle(sty.color, 1.2, sty.dashes...)})
-		hi = math.Max(hi, s.WaterSurface)
-		drawn++
 	}
 	if drawn == 0 {
 		return res, fmt.Errorf("%w: no section has a ground line", ErrNoData)
@@ -365,6 +344,36 @@ func ReachSections(w io.Writer, r ReachPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// addOverlaidSection draws section i's ground (finite points only) and
+// its water surface, shifted to put the thalweg at station 0, widening
+// lo and hi to them; it reports whether anything was drawn.
+func addOverlaidSection(p *plot.Plot, i int, s ReachSection, ground []subdivide.Point, un unitNames, lo, hi *float64) bool {
+	sty := seriesStyles[i%len(seriesStyles)]
+	t := s.thalweg()
+	xy := make(plotter.XYs, len(ground))
+	shifted := make([]subdivide.Point, len(ground))
+	for k, q := range ground {
+		xy[k] = plotter.XY{X: q.Station - t.Station, Y: q.Elevation}
+		shifted[k] = subdivide.Point{Station: q.Station - t.Station, Elevation: q.Elevation}
+		*lo, *hi = math.Min(*lo, q.Elevation), math.Max(*hi, q.Elevation)
+	}
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return false
+	}
+	l.LineStyle = lineStyle(sty.color, 1.8, sty.dashes...)
+	sc, _ := plotter.NewScatter(xy)
+	sc.GlyphStyle = draw.GlyphStyle{Color: sty.color, Radius: vg.Points(2.6), Shape: sty.glyph}
+	p.Add(l, sc)
+	label := fmt.Sprintf("%s at %s %s, water surface %s", orDefault(s.ID, fmt.Sprintf("section %d", i+1)),
+		fmtNum(s.Distance), un.length, fmtStage(s.WaterSurface))
+	p.Legend.Add(label, l, sc)
+	pools := wetPools(shifted, s.WaterSurface, true)
+	p.Add(waterLine{pools: pools, stage: s.WaterSurface, style: lineStyle(sty.color, 1.2, sty.dashes...)})
+	*hi = math.Max(*hi, s.WaterSurface)
+	return true
 }
 
 func (r ReachPlot) foot() []string {

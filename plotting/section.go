@@ -442,6 +442,15 @@ func (d sectionDecor) groundAt(x float64) float64 {
 
 func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 	tx, ty := p.Transforms(&c)
+	d.drawDividers(c, tx, ty)
+	d.drawNLabels(c, tx)
+	d.drawMarks(c, tx, ty)
+	d.drawThalweg(c, tx, ty)
+}
+
+// drawDividers draws the subsection dividers from the ground up to the
+// panel's top, the banks heavier and named.
+func (d sectionDecor) drawDividers(c draw.Canvas, tx, ty func(float64) vg.Length) {
 	top := c.Max.Y
 	divider := lineStyle(colDivider, 0.9, vg.Points(2), vg.Points(2.5))
 	bank := lineStyle(colBank, 1.6, vg.Points(7), vg.Points(3))
@@ -455,27 +464,33 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 		cx := tx(x)
 		c.StrokeLine2(ls, cx, ty(d.groundAt(x)), cx, top)
 	}
-	if d.sec.HasBanks {
-		for _, b := range []struct {
-			x    float64
-			name string
-		}{{d.sec.LeftBank, "left bank"}, {d.sec.RightBank, "right bank"}} {
-			st := textStyle(sansBold(sizeNote), colBank)
-			st.Rotation = math.Pi / 2
-			st.XAlign = draw.XLeft
-			st.YAlign = draw.YBottom
-			cx := tx(b.x)
-			gy := ty(d.groundAt(b.x))
-			if (b.x != d.sec.LeftBank && b.x != d.sec.RightBank) || !finite(b.x) {
-				continue
-			}
-			if !d.isDivider(b.x) {
-				c.StrokeLine2(bank, cx, gy, cx, top)
-			}
-			haloText(c, st, vg.Point{X: cx - vg.Points(3.5), Y: gy + vg.Points(6)}, b.name)
-		}
+	if !d.sec.HasBanks {
+		return
 	}
-	// n labels on up to three staggered rows under the top edge.
+	for _, b := range []struct {
+		x    float64
+		name string
+	}{{d.sec.LeftBank, "left bank"}, {d.sec.RightBank, "right bank"}} {
+		st := textStyle(sansBold(sizeNote), colBank)
+		st.Rotation = math.Pi / 2
+		st.XAlign = draw.XLeft
+		st.YAlign = draw.YBottom
+		cx := tx(b.x)
+		gy := ty(d.groundAt(b.x))
+		if (b.x != d.sec.LeftBank && b.x != d.sec.RightBank) || !finite(b.x) {
+			continue
+		}
+		if !d.isDivider(b.x) {
+			c.StrokeLine2(bank, cx, gy, cx, top)
+		}
+		haloText(c, st, vg.Point{X: cx - vg.Points(3.5), Y: gy + vg.Points(6)}, b.name)
+	}
+}
+
+// drawNLabels writes each subsection's n on up to three staggered rows
+// under the top edge.
+func (d sectionDecor) drawNLabels(c draw.Canvas, tx func(float64) vg.Length) {
+	top := c.Max.Y
 	st := textStyle(sans(sizeNote), colInk)
 	st.XAlign = draw.XCenter
 	st.YAlign = draw.YTop
@@ -498,7 +513,11 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 		rowEnd[row] = cx + w/2
 		haloText(c, st, vg.Point{X: cx, Y: top - vg.Points(4) - vg.Length(row)*rowH}, label)
 	}
-	// Point marks, small and slanted above their point.
+}
+
+// drawMarks writes the survey's point marks, small and slanted above their
+// point.
+func (d sectionDecor) drawMarks(c draw.Canvas, tx, ty func(float64) vg.Length) {
 	ms := textStyle(sansItalic(sizeNote-1), colMuted)
 	ms.Rotation = math.Pi / 6
 	for i, m := range d.marks {
@@ -509,7 +528,10 @@ func (d sectionDecor) Plot(c draw.Canvas, p *plot.Plot) {
 		q := d.pts[i]
 		c.FillText(ms, vg.Point{X: tx(q.Station) + vg.Points(3), Y: ty(q.Elevation) + vg.Points(5)}, m)
 	}
-	// The thalweg: a mark below the lowest point and its elevation.
+}
+
+// drawThalweg marks the lowest point from below with its elevation.
+func (d sectionDecor) drawThalweg(c draw.Canvas, tx, ty func(float64) vg.Length) {
 	x, y := tx(d.thalweg.Station), ty(d.thalweg.Elevation)
 	downTriangle{}.DrawGlyph(&c, draw.GlyphStyle{Color: colInk, Radius: vg.Points(4.5)}, vg.Point{X: x, Y: y - vg.Points(9)})
 	ts := textStyle(sansBold(sizeNote), colInk)

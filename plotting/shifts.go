@@ -180,6 +180,25 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 	}
 	pad := math.Max((hi-lo)*0.1, 0.05)
 	lo, hi = lo-pad, hi+pad
+	addDiagrams(p, c, lo, hi)
+	addGaugingPoints(p, pts, true)
+	ringPoints(p, outside, "outside its band on the base rating")
+	p.Y.Min, p.Y.Max = lo, hi
+	padAxis(&p.X, shiftPad)
+	p.X.Tick.Marker = linearTicks{}
+	p.Y.Tick.Marker = linearTicks{}
+	p.Legend.Top, p.Legend.Left = true, true
+	p.Legend.XOffs = vg.Points(8)
+	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
+		p.Draw(cv)
+		return nil
+	})
+	return res, err
+}
+
+// addDiagrams draws the applied shift diagrams across the stages lo to hi
+// and each visit's proposal over the stages of its gaugings.
+func addDiagrams(p *plot.Plot, c *gauged.ShiftCheck, lo, hi float64) {
 	lines := []struct {
 		ds    []gauged.ShiftDiagram
 		label string
@@ -205,19 +224,6 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 			}
 		}
 	}
-	addGaugingPoints(p, pts, true)
-	ringPoints(p, outside, "outside its band on the base rating")
-	p.Y.Min, p.Y.Max = lo, hi
-	padAxis(&p.X, shiftPad)
-	p.X.Tick.Marker = linearTicks{}
-	p.Y.Tick.Marker = linearTicks{}
-	p.Legend.Top, p.Legend.Left = true, true
-	p.Legend.XOffs = vg.Points(8)
-	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
-	})
-	return res, err
 }
 
 // shiftPad widens a shift axis beyond its data, as a fraction of the
