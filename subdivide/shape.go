@@ -122,94 +122,13 @@ func ParseShape(spec string) (Shape, error) {
 	if !ok {
 		return bad("kind", fmt.Errorf("%w %q", ErrShapeKind, strings.TrimSpace(kindText)))
 	}
-	vals := map[string]float64{}
-	if strings.TrimSpace(rest) != "" {
-		for _, kv := range strings.Split(rest, ",") {
-			k, v, found := strings.Cut(kv, "=")
-			k = strings.ToLower(strings.TrimSpace(k))
-			if !found {
-				return bad(strconv.Quote(k), errors.New("want key=value"))
-			}
-			if !contains(keys, k) {
-				return bad(strconv.Quote(k), fmt.Errorf("%w for %s (keys: %s)", ErrShapeKey, s.Kind, strings.Join(keys, ", ")))
-			}
-			if _, dup := vals[k]; dup {
-				return bad(k, ErrShapeRepeated)
-			}
-			x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
-			if err != nil || !finite(x) {
-				return bad(k, fmt.Errorf("%q is %w", strings.TrimSpace(v), ErrShapeValue))
-			}
-			vals[k] = x
-		}
+	vals, key, err := shapeValues(rest, s.Kind, keys)
+	if err != nil {
+		return bad(key, err)
 	}
-	has := func(k string) bool { _, ok := vals[k]; return ok }
-	s.Invert = vals["invert"]
-	s.Height = vals["height"]
-	if has("height") && !(s.Height > 0) {
-		return bad("height", ErrShapePositive)
-	}
-	switch s.Kind {
-	case Rectangle:
-		s.Bottom = vals["width"]
-		if !has("width") {
-			return bad("width", ErrShapeMissing)
-		}
-	case Trapezoid, Compound:
-		s.Bottom = vals["bottom"]
-		if !has("bottom") {
-			return bad("bottom", ErrShapeMissing)
-		}
-	case Circle:
-		s.Diameter = vals["diameter"]
-		if !has("diameter") {
-			return bad("diameter", ErrShapeMissing)
-		}
-	}
-	if s.Kind == Trapezoid || s.Kind == Triangle || s.Kind == Compound {
-		switch {
-		case has("side") && has("angle"):
-			return bad("angle", errors.New("give side= or angle=, not both"))
-		case has("side"):
-			s.Left, s.Right = vals["side"], vals["side"]
-		case has("angle"):
-			a := vals["angle"]
-			if !(a > 0 && a <= 90) {
-				return bad("angle", ErrShapeAngle)
-			}
-			z := 1 / math.Tan(a*math.Pi/180)
-			if a == 90 {
-				z = 0
-			}
-			s.Left, s.Right = z, z
-		case !has("left") || !has("right"):
-			key := "side"
-			if has("left") || has("right") {
-				key = map[bool]string{true: "right", false: "left"}[has("left")]
-			}
-			return bad(key, ErrShapeMissing)
-		}
-		if has("left") {
-			s.Left = vals["left"]
-		}
-		if has("right") {
-			s.Right = vals["right"]
-		}
-	}
-	if s.Kind == Compound {
-		for _, k := range []string{"depth", "floodplain"} {
-			if !has(k) {
-				return bad(k, ErrShapeMissing)
-			}
-		}
-		s.Depth, s.Floodplain = vals["depth"], vals["floodplain"]
-		s.Outer = s.Left
-		if has("outer") {
-			s.Outer = vals["outer"]
-		}
-		s.FloodN = vals["floodn"]
-		if has("floodn") && !(s.FloodN > 0) {
-			return bad("floodn", ErrShapePositive)
+	for _, set := range []func(shapeVals) (string, error){s.setSize, s.setSides, s.setFloodplain} {
+		if key, err := set(vals); err != nil {
+			return bad(key, err)
 		}
 	}
 	if err := s.Validate(); err != nil {
@@ -220,6 +139,122 @@ func ParseShape(spec string) (Shape, error) {
 		return Shape{}, err
 	}
 	return s, nil
+}
+
+// shapeVals are the key=value pairs of a shape spec.
+type shapeVals map[string]float64
+
+func (v shapeVals) has(k string) bool { _, ok := v[k]; return ok }
+
+// shapeValues reads the key=value list of a spec of the given kind, whose
+// keys are keys. On error it returns the key at fault.
+func shapeValues(list string, kind ShapeKind, keys []string) (shapeVals, string, error) {
+	vals := shapeVals{}
+	if strings.TrimSpace(list) == "" {
+		return vals, "", nil
+	}
+	for _, kv := range strings.Split(list, ",") {
+		k, v, found := strings.Cut(kv, "=")
+		k = strings.ToLower(strings.TrimSpace(k))
+		if !found {
+			return nil, strconv.Quote(k), errors.New("want key=value")
+		}
+		if !contains(keys, k) {
+			return nil, strconv.Quote(k), fmt.Errorf("%w for %s (keys: %s)", ErrShapeKey, kind, strings.Join(keys, ", "))
+		}
+		if vals.has(k) {
+			return nil, k, ErrShapeRepeated
+		}
+		x, err := strconv.ParseFloat(strings.TrimSpace(v), 64)
+		if err != nil || !finite(x) {
+			return nil, k, fmt.Errorf("%q is %w", strings.TrimSpace(v), ErrShapeValue)
+		}
+		vals[k] = x
+	}
+	return vals, "", nil
+}
+
+// setSize sets the invert, the height and the kind's main dimension.
+func (s *Shape) setSize(vals shapeVals) (string, error) {
+	s.Invert = vals["invert"]
+	s.Height = vals["height"]
+	if vals.has("height") && !(s.Height > 0) {
+		return "height", ErrShapePositive
+	}
+	need := map[ShapeKind]string{Rectangle: "width", Trapezoid: "bottom", Compound: "bottom", Circle: "diameter"}[s.Kind]
+	if need == "" {
+		return "", nil
+	}
+	if !vals.has(need) {
+		return need, ErrShapeMissing
+	}
+	if s.Kind == Circle {
+		s.Diameter = vals[need]
+	} else {
+		s.Bottom = vals[need]
+	}
+	return "", nil
+}
+
+// setSides sets the side slopes of a trapezoid, triangle or compound
+// shape: side= for both, angle= in degrees from the horizontal, or left=
+// and right=, which override either.
+func (s *Shape) setSides(vals shapeVals) (string, error) {
+	if s.Kind != Trapezoid && s.Kind != Triangle && s.Kind != Compound {
+		return "", nil
+	}
+	switch {
+	case vals.has("side") && vals.has("angle"):
+		return "angle", errors.New("give side= or angle=, not both")
+	case vals.has("side"):
+		s.Left, s.Right = vals["side"], vals["side"]
+	case vals.has("angle"):
+		a := vals["angle"]
+		if !(a > 0 && a <= 90) {
+			return "angle", ErrShapeAngle
+		}
+		z := 1 / math.Tan(a*math.Pi/180)
+		if a == 90 {
+			z = 0
+		}
+		s.Left, s.Right = z, z
+	case !vals.has("left") || !vals.has("right"):
+		key := "side"
+		if vals.has("left") || vals.has("right") {
+			key = map[bool]string{true: "right", false: "left"}[vals.has("left")]
+		}
+		return key, ErrShapeMissing
+	}
+	if vals.has("left") {
+		s.Left = vals["left"]
+	}
+	if vals.has("right") {
+		s.Right = vals["right"]
+	}
+	return "", nil
+}
+
+// setFloodplain sets the channel depth, floodplain width, outer slope and
+// floodplain n of a compound shape.
+func (s *Shape) setFloodplain(vals shapeVals) (string, error) {
+	if s.Kind != Compound {
+		return "", nil
+	}
+	for _, k := range []string{"depth", "floodplain"} {
+		if !vals.has(k) {
+			return k, ErrShapeMissing
+		}
+	}
+	s.Depth, s.Floodplain = vals["depth"], vals["floodplain"]
+	s.Outer = s.Left
+	if vals.has("outer") {
+		s.Outer = vals["outer"]
+	}
+	s.FloodN = vals["floodn"]
+	if vals.has("floodn") && !(s.FloodN > 0) {
+		return "floodn", ErrShapePositive
+	}
+	return "", nil
 }
 
 func contains(list []string, s string) bool {
