@@ -220,14 +220,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
 		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
 	}
-	var lsqStarts [][]float64
-	var lsqFull []float64
-	if p, _, _, err := newLSQProblem(gs, opt.ControlOptions); err == nil {
-		lsqStarts = p.starts()
-		if x, _, err := p.solveFrom(lsqStarts); err == nil {
-			lsqFull = p.m.full(x)
-		}
-	}
+	lsqStarts, lsqFull := lsqGuess(gs, opt.ControlOptions)
 	b := &bayesProblem{m: newModel(kinds, joints), d: d, opt: opt, warn: warn}
 	if err := b.resolvePriors(lsqFull); err != nil {
 		return nil, err
@@ -262,19 +255,45 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	f.Controls = b.controlsFromPosterior(r, post)
 	f.Warnings = append(f.Warnings, post.warnings()...)
 	f.finishCommon(gs, reasons, b.exponentBounds())
-	for k := range kinds {
+	f.Warnings = append(f.Warnings, b.thinControls(r)...)
+	return f, nil
+}
+
+// lsqGuess returns the least-squares fit's starting points and, when it
+// converges, its full parameter vector (nil otherwise): a guess at the
+// posterior mode and at priors the survey does not give.
+func lsqGuess(gs []Gauging, opt ControlOptions) ([][]float64, []float64) {
+	p, _, _, err := newLSQProblem(gs, opt)
+	if err != nil {
+		return nil, nil
+	}
+	starts := p.starts()
+	x, _, err := p.solveFrom(starts)
+	if err != nil {
+		return starts, nil
+	}
+	return starts, p.m.full(x)
+}
+
+// thinControls warns of each control of rating r (at the posterior mode)
+// holding fewer than MinPerSegment gaugings: its parameters rest on the
+// prior.
+func (b *bayesProblem) thinControls(r Rating) []string {
+	var out []string
+	n := len(r.Controls)
+	for k := range n {
 		lo, hi := math.Inf(-1), math.Inf(1)
 		if k > 0 {
 			lo = r.Controls[k].From
 		}
-		if k+1 < len(kinds) {
+		if k+1 < n {
 			hi = r.Controls[k+1].From
 		}
-		if n := d.countIn(lo, hi); n < MinPerSegment {
-			f.Warnings = append(f.Warnings, fmt.Sprintf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, n, b.sources[k]))
+		if c := b.d.countIn(lo, hi); c < MinPerSegment {
+			out = append(out, fmt.Sprintf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, c, b.sources[k]))
 		}
 	}
-	return f, nil
+	return out
 }
 
 // modeScatter is the weighted standard error of estimate of rating r, as
