@@ -4,6 +4,7 @@ import (
 	"errors"
 	"strings"
 	"testing"
+
 	"wetline/subdivide"
 )
 

@@ -11,9 +11,10 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
-	"wetline/subdivide"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/subdivide"
 )
 
 // Table is a rectangular table read from a CSV file or a workbook sheet:

@@ -7,9 +7,9 @@ import (
 	"path/filepath"
 	"strings"
 	"time"
-	"wetline/survey"
 
 	"wetline/rating"
+	"wetline/survey"
 	"wetline/survey/batch"
 	"wetline/survey/results"
 )

@@ -10,9 +10,10 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-	"wetline/survey/output"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/survey/output"
 )
 
 // surveyCSV is a small invented trapezoid-like section with bank marks;

@@ -9,9 +9,10 @@ import (
 	"strconv"
 	"strings"
 	"testing"
-	"wetline/survey"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/survey"
 )
 
 const larchCoords = "demodata/larch-xs-coords.csv"

@@ -8,10 +8,10 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"wetline/survey"
 
 	"wetline/plotting"
 	"wetline/rating"
+	"wetline/survey"
 	"wetline/survey/results"
 )
 

@@ -5,9 +5,10 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
-	"wetline/survey"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/survey"
 )
 
 // Every command that writes a report takes --site and names the site in

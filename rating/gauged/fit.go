@@ -4,12 +4,14 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
-	"wetline/rating"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"wetline/rating"
 )
 
 // Limits and tolerances of the power-law fit.
@@ -542,88 +544,104 @@ func (p *fitProblem) solve() ([]float64, float64, error) {
 // (best first: one, or multiStart when breakpoints are searched, since
 // several starts guard against the local minima of segmented fits).
 func (p *fitProblem) startGrid(obj func([]float64) float64) [][]float64 {
-	span := p.hi - p.lo
-	var zs []float64
-	if !p.opt.ZeroFlowFixed {
-		// lo − e from 10⁻⁴ to 10² stage spans, evenly in the logarithm.
-		ng := gridZeroFlow
-		if p.opt.Breaks == nil && p.segments > 1 {
-			ng = gridZeroFlowBreaks
-		}
-		for i := 0; i < ng; i++ {
-			d := span * math.Pow(10, -4+6*float64(i)/float64(ng-1))
-			zs = append(zs, math.Log(d))
-		}
-	}
-	var cands []float64 // trial breakpoints as span fractions
-	if p.opt.Breaks == nil && p.segments > 1 {
-		var mids []float64
-		for i := MinPerSegment - 1; i < len(p.h)-MinPerSegment; i++ {
-			if p.h[i+1] > p.h[i] {
-				mids = append(mids, (0.5*(p.h[i]+p.h[i+1])-p.lo)/span)
-			}
-		}
-		step := math.Max(1, float64(len(mids))/gridBreaks)
-		for x := 0.0; int(x) < len(mids); x += step {
-			cands = append(cands, mids[int(x)])
-		}
-	}
-	type start struct {
-		x []float64
-		f float64
-	}
-	var top []start // ascending f
+	zs := p.trialOffsets()
 	keep := 1
 	if p.opt.Breaks == nil && p.segments > 1 {
 		keep = multiStart
 	}
-	try := func(v []float64) {
-		f := obj(v)
-		if math.IsInf(f, 1) || (len(top) == keep && f >= top[len(top)-1].f) {
-			return
-		}
-		i := sort.Search(len(top), func(i int) bool { return top[i].f > f })
-		top = append(top, start{})
-		copy(top[i+1:], top[i:])
-		top[i] = start{append([]float64(nil), v...), f}
-		if len(top) > keep {
-			top = top[:keep]
-		}
-	}
-	result := func() [][]float64 {
-		out := make([][]float64, len(top))
-		for i, s := range top {
-			out[i] = s.x
-		}
-		return out
-	}
-	var breakSets [][]float64
-	switch {
-	case p.opt.Breaks != nil || p.segments == 1:
-		breakSets = [][]float64{nil}
-	case p.segments == 2:
-		for _, c := range cands {
-			breakSets = append(breakSets, []float64{c})
-		}
-	default:
-		for i, c := range cands {
-			for _, d := range cands[i+1:] {
-				breakSets = append(breakSets, []float64{c, d})
-			}
-		}
-	}
+	best := bestStarts{keep: keep}
+	sets := p.trialBreakSets()
 	if zs == nil {
-		for _, b := range breakSets {
-			try(b)
+		for _, b := range sets {
+			best.try(obj, b)
 		}
-		return result()
+		return best.points()
 	}
 	for _, z := range zs {
-		for _, b := range breakSets {
-			try(append([]float64{z}, b...))
+		for _, b := range sets {
+			best.try(obj, append([]float64{z}, b...))
 		}
 	}
-	return result()
+	return best.points()
+}
+
+// trialOffsets are the trial values of ln(lo − e) for a fitted gauge
+// height of zero flow: lo − e from 10⁻⁴ to 10² stage spans, evenly in the
+// logarithm (nil when e is held fixed).
+func (p *fitProblem) trialOffsets() []float64 {
+	if p.opt.ZeroFlowFixed {
+		return nil
+	}
+	span := p.hi - p.lo
+	ng := gridZeroFlow
+	if p.opt.Breaks == nil && p.segments > 1 {
+		ng = gridZeroFlowBreaks
+	}
+	zs := make([]float64, ng)
+	for i := range zs {
+		zs[i] = math.Log(span * math.Pow(10, -4+6*float64(i)/float64(ng-1)))
+	}
+	return zs
+}
+
+// trialBreakSets are the trial sets of breakpoints, as fractions of the
+// stage span: mid-points between gauged stages leaving MinPerSegment
+// gaugings to each segment, thinned to about gridBreaks, one or two at a
+// time; one empty set when the breaks are given or there is one segment.
+func (p *fitProblem) trialBreakSets() [][]float64 {
+	if p.opt.Breaks != nil || p.segments == 1 {
+		return [][]float64{nil}
+	}
+	span := p.hi - p.lo
+	var mids, cands []float64
+	for i := MinPerSegment - 1; i < len(p.h)-MinPerSegment; i++ {
+		if p.h[i+1] > p.h[i] {
+			mids = append(mids, (0.5*(p.h[i]+p.h[i+1])-p.lo)/span)
+		}
+	}
+	step := math.Max(1, float64(len(mids))/gridBreaks)
+	for x := 0.0; int(x) < len(mids); x += step {
+		cands = append(cands, mids[int(x)])
+	}
+	var sets [][]float64
+	if p.segments == 2 {
+		for _, c := range cands {
+			sets = append(sets, []float64{c})
+		}
+		return sets
+	}
+	for i, c := range cands {
+		for _, d := range cands[i+1:] {
+			sets = append(sets, []float64{c, d})
+		}
+	}
+	return sets
+}
+
+// bestStarts keeps the keep trial points of least objective, ascending.
+type bestStarts struct {
+	keep int
+	x    [][]float64
+	f    []float64
+}
+
+// try evaluates obj at v and keeps v if it is among the best so far.
+func (b *bestStarts) try(obj func([]float64) float64, v []float64) {
+	f := obj(v)
+	if math.IsInf(f, 1) || (len(b.f) == b.keep && f >= b.f[len(b.f)-1]) {
+		return
+	}
+	i := sort.Search(len(b.f), func(i int) bool { return b.f[i] > f })
+	b.x = slices.Insert(b.x, i, append([]float64(nil), v...))
+	b.f = slices.Insert(b.f, i, f)
+	if len(b.f) > b.keep {
+		b.x, b.f = b.x[:b.keep], b.f[:b.keep]
+	}
+}
+
+// points returns the points kept, best first.
+func (b *bestStarts) points() [][]float64 {
+	return append([][]float64{}, b.x...)
 }
 
 // split returns e, β and the breakpoints held in theta.

@@ -3,6 +3,7 @@ package gauged
 import (
 	"fmt"
 	"time"
+
 	"wetline/rating"
 )
 

@@ -5,9 +5,8 @@ import (
 	"math"
 	"sort"
 
-	"wetline/subdivide"
-
 	"wetline/rating"
+	"wetline/subdivide"
 )
 
 // CurveSamples is the number of equal steps in which every stage band of

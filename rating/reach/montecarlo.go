@@ -7,9 +7,10 @@ import (
 	"runtime"
 	"sort"
 	"sync"
-	"wetline/rating"
 
 	"gonum.org/v1/gonum/stat"
+
+	"wetline/rating"
 )
 
 // Defaults of the slope-area uncertainty analysis. They are stated

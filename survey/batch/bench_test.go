@@ -11,6 +11,7 @@ import (
 	"strings"
 	"testing"
 	"time"
+
 	"wetline/rating"
 	"wetline/survey/batch"
 	"wetline/survey/output"

@@ -8,6 +8,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
 	"wetline/rating"
 	"wetline/survey/workbook"
 )

@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"strings"
+
 	"wetline/rating"
 	"wetline/rating/reach"
 )

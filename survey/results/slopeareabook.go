@@ -3,6 +3,7 @@ package results
 import (
 	"fmt"
 	"io"
+
 	"wetline/rating"
 	"wetline/rating/reach"
 	"wetline/survey/workbook"
