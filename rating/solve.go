@@ -91,63 +91,82 @@ func Solve(g subdivide.Geometry, q float64, opt Options) (Solution, error) {
 		return sol, err
 	}
 	sol.Closed = closed
-	u := opt.Units
 	if opt.Slope > 0 {
-		if closed {
-			full, err := s.row(s.g.Top())
-			if err != nil {
-				return sol, err
-			}
-			sol.FullDischarge = full.Discharge
-			if sol.PeakStage, sol.PeakDischarge, err = PeakDischarge(g, opt); err != nil {
-				return sol, err
-			}
-		}
-		roots, err := NormalStages(g, q, opt)
-		if errors.Is(err, ErrNoRoot) && closed {
-			return sol, fmt.Errorf("discharge %g %s is more than the conduit carries part full at slope %g (at most %.4g %s, at stage %.4f %s): %w",
-				q, u.Discharge(), opt.Slope, sol.PeakDischarge, u.Discharge(), sol.PeakStage, u.Length(), ErrNoRoot)
-		}
-		if err != nil {
+		if err := sol.solveNormal(g, &s, opt); err != nil {
 			return sol, err
 		}
-		for _, r := range roots {
-			row, err := s.row(r.Stage)
-			if err != nil {
-				return sol, err
-			}
-			sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
-			if row.ExtendedLeft > 0 || row.ExtendedRight > 0 {
-				sol.Warnings = append(sol.Warnings, fmt.Sprintf(
-					"normal stage %.4f %s is above an end of the section: vertical walls were added there", r.Stage, u.Length()))
-			}
+	}
+	if err := sol.solveCritical(g, &s, opt); err != nil {
+		return sol, err
+	}
+	if sol.MinEnergy, err = MinSpecificEnergy(g, sol.Discharge, opt); err != nil {
+		return sol, err
+	}
+	return sol, nil
+}
+
+// solveNormal fills the normal stages of the solution's discharge, and a
+// conduit's full and greatest part-full discharges.
+func (sol *Solution) solveNormal(g subdivide.Geometry, s *solver, opt Options) error {
+	q, u := sol.Discharge, opt.Units
+	if sol.Closed {
+		full, err := s.row(s.g.Top())
+		if err != nil {
+			return err
 		}
-		if len(roots) > 1 {
-			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
-				"discharge does not grow steadily with stage here: %d normal stages carry %g %s; on a falling branch a higher stage carries less",
-				len(roots), q, u.Discharge()))
+		sol.FullDischarge = full.Discharge
+		if sol.PeakStage, sol.PeakDischarge, err = PeakDischarge(g, opt); err != nil {
+			return err
 		}
 	}
+	roots, err := NormalStages(g, q, opt)
+	if errors.Is(err, ErrNoRoot) && sol.Closed {
+		return fmt.Errorf("discharge %g %s is more than the conduit carries part full at slope %g (at most %.4g %s, at stage %.4f %s): %w",
+			q, u.Discharge(), opt.Slope, sol.PeakDischarge, u.Discharge(), sol.PeakStage, u.Length(), ErrNoRoot)
+	}
+	if err != nil {
+		return err
+	}
+	for _, r := range roots {
+		row, err := s.row(r.Stage)
+		if err != nil {
+			return err
+		}
+		sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
+		if row.ExtendedLeft > 0 || row.ExtendedRight > 0 {
+			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+				"normal stage %.4f %s is above an end of the section: vertical walls were added there", r.Stage, u.Length()))
+		}
+	}
+	if len(roots) > 1 {
+		sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+			"discharge does not grow steadily with stage here: %d normal stages carry %g %s; on a falling branch a higher stage carries less",
+			len(roots), q, u.Discharge()))
+	}
+	return nil
+}
+
+// solveCritical fills the critical stages of the solution's discharge
+// with their α and specific energy.
+func (sol *Solution) solveCritical(g subdivide.Geometry, s *solver, opt Options) error {
+	q := sol.Discharge
 	crit, err := CriticalStages(g, q, opt)
 	if err != nil {
-		return sol, err
+		return err
 	}
 	for _, c := range crit {
 		row, err := s.row(c.Stage)
 		if err != nil {
-			return sol, err
+			return err
 		}
 		e, err := s.energy(c.Stage, q)
 		if err != nil {
-			return sol, err
+			return err
 		}
 		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e})
 	}
 	if len(crit) > 1 {
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf("%d critical stages: the section is compound, so flow can pass through critical more than once", len(crit)))
 	}
-	if sol.MinEnergy, err = MinSpecificEnergy(g, q, opt); err != nil {
-		return sol, err
-	}
-	return sol, nil
+	return nil
 }
