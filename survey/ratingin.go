@@ -56,45 +56,18 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if out.Units, err = note.Resolve(choice.Units, choice.Given); err != nil {
 		return out, err
 	}
-	nan := math.NaN()
-	var errs errorList
-	opt := func(rec Record, names ...string) float64 {
-		c := t.Column(names...)
-		if c < 0 {
-			return nan
-		}
-		v, ok, err := t.Float(rec, c)
-		if err != nil {
-			errs = append(errs, err.(*ParseError))
-			return nan
-		}
-		if !ok {
-			return nan
-		}
-		return v
-	}
-	need := func(rec Record, c int, what string) float64 {
-		v, ok, err := t.Float(rec, c)
-		switch {
-		case err != nil:
-			errs = append(errs, err.(*ParseError))
-		case !ok:
-			errs = append(errs, t.At(rec, c, fmt.Errorf("%w: %s is blank", ErrNotNumber, what)))
-		default:
-			return v
-		}
-		return nan
-	}
+	cells := rowCells{t: t}
 	out.Bottom, out.Top = math.Inf(1), math.Inf(-1)
 	bottomFromDepth := false
 	for _, rec := range t.Records {
+		opt := func(name string) float64 { return cells.optional(rec, name) }
 		r := rating.Row{
-			Stage: need(rec, cs, "stage"), Discharge: need(rec, cq, "discharge"),
-			Depth: opt(rec, "depth"), Area: opt(rec, "area"), WettedPerimeter: opt(rec, "wetted_perimeter"),
-			TopWidth: opt(rec, "top_width"), HydraulicRadius: opt(rec, "hydraulic_radius"),
-			Conveyance: opt(rec, "conveyance"), MeanVelocity: opt(rec, "mean_velocity"),
-			Alpha: opt(rec, "alpha"), Froude: opt(rec, "froude"), HydraulicDepth: opt(rec, "hydraulic_depth"),
-			Beta: opt(rec, "beta"), ShearStress: opt(rec, "shear_stress"),
+			Stage: cells.needed(rec, cs, "stage"), Discharge: cells.needed(rec, cq, "discharge"),
+			Depth: opt("depth"), Area: opt("area"), WettedPerimeter: opt("wetted_perimeter"),
+			TopWidth: opt("top_width"), HydraulicRadius: opt("hydraulic_radius"),
+			Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
+			Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
+			Beta: opt("beta"), ShearStress: opt("shear_stress"),
 		}
 		if math.IsNaN(r.Stage) || math.IsNaN(r.Discharge) {
 			continue
@@ -107,7 +80,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 		}
 		out.Rows = append(out.Rows, r)
 	}
-	if err := errs.err(); err != nil {
+	if err := cells.errs.err(); err != nil {
 		return out, err
 	}
 	if len(out.Rows) == 0 {
@@ -118,4 +91,43 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 			filepath.Base(t.File)))
 	}
 	return out, nil
+}
+
+// rowCells reads the numbers of a table's rows, gathering every bad cell.
+type rowCells struct {
+	t    *Table
+	errs errorList
+}
+
+// optional is the number in the column named name, NaN when the column
+// is absent, the cell blank or bad (a bad cell is gathered).
+func (c *rowCells) optional(rec Record, name string) float64 {
+	col := c.t.Column(name)
+	if col < 0 {
+		return math.NaN()
+	}
+	v, ok, err := c.t.Float(rec, col)
+	if err != nil {
+		c.errs = append(c.errs, err.(*ParseError))
+		return math.NaN()
+	}
+	if !ok {
+		return math.NaN()
+	}
+	return v
+}
+
+// needed is the number in column col, NaN with a gathered error when the
+// cell is blank or bad; what names the value in the message.
+func (c *rowCells) needed(rec Record, col int, what string) float64 {
+	v, ok, err := c.t.Float(rec, col)
+	switch {
+	case err != nil:
+		c.errs = append(c.errs, err.(*ParseError))
+	case !ok:
+		c.errs = append(c.errs, c.t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what)))
+	default:
+		return v
+	}
+	return math.NaN()
 }
