@@ -119,33 +119,9 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 		s.Points = append(s.Points, SlopePoint{Stage: h, Discharge: discharges[i], Conveyance: k, Slope: sl})
 		x[i], y[i], w[i] = h, math.Log(sl), weights[i]
 	}
-	var sw, sx, sy float64
-	for i := range x {
-		sw += w[i]
-		sx += w[i] * x[i]
-		sy += w[i] * y[i]
-	}
-	s.Centre = sx / sw
-	ym := sy / sw
-	// Weights normalised to mean 1, as in the fits.
-	for i := range w {
-		w[i] *= float64(n) / sw
-	}
-	sw = float64(n)
-	var sxx, sxy float64
-	for i := range x {
-		sxx += w[i] * (x[i] - s.Centre) * (x[i] - s.Centre)
-		sxy += w[i] * (x[i] - s.Centre) * (y[i] - ym)
-	}
-	trend := 0.0
-	if sxx > 0 {
-		trend = sxy / sxx
-	}
-	ss := 0.0
-	for i := range x {
-		r := y[i] - ym - trend*(x[i]-s.Centre)
-		ss += w[i] * r * r
-	}
+	l := weightedLine(x, y, w)
+	s.Centre = l.centre
+	ym, trend, ss, sxx, sw := l.mean, l.trend, l.ss, l.sxx, float64(n)
 	s2 := ss / float64(n-2)
 	span := x[n-1] - x[0]
 	switch {
@@ -176,6 +152,49 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	}
 	s.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
 	return s, nil
+}
+
+// lineFit is a weighted least-squares line y = mean + trend·(x − centre):
+// centre and mean are the weighted means of x and y, sxx the weighted sum
+// of squares of x about centre and ss that of the residuals, the weights
+// normalised to mean 1.
+type lineFit struct {
+	centre, mean, trend, sxx, ss float64
+}
+
+// weightedLine fits a line to the points (x, y) with weights w by least
+// squares; w is normalised in place to mean 1. A zero sxx (all x equal)
+// gives a level line.
+//
+// References:
+//
+//	Draper, N.R., and Smith, H., 1998, Applied Regression Analysis, 3rd ed.:
+//	Wiley (weighted least squares; cited from memory).
+func weightedLine(x, y, w []float64) lineFit {
+	n := len(x)
+	var sw, sx, sy float64
+	for i := range x {
+		sw += w[i]
+		sx += w[i] * x[i]
+		sy += w[i] * y[i]
+	}
+	l := lineFit{centre: sx / sw, mean: sy / sw}
+	for i := range w {
+		w[i] *= float64(n) / sw
+	}
+	var sxy float64
+	for i := range x {
+		l.sxx += w[i] * (x[i] - l.centre) * (x[i] - l.centre)
+		sxy += w[i] * (x[i] - l.centre) * (y[i] - l.mean)
+	}
+	if l.sxx > 0 {
+		l.trend = sxy / l.sxx
+	}
+	for i := range x {
+		r := y[i] - l.mean - l.trend*(x[i]-l.centre)
+		l.ss += w[i] * r * r
+	}
+	return l
 }
 
 // LogSlopeAt is the fitted ln S at gauge height h.
