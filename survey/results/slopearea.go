@@ -117,12 +117,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		out.Warnings = []string{}
 	}
 	for i, s := range r.Sections {
-		js := jsonSASection{ID: s.ID, Distance: Float(s.Distance), WSLeft: Float(s.Left), WSRight: Float(s.Right),
-			WaterSurface: Float(s.WaterSurface), MarksUsed: s.MarksUsed, Bottom: Float(s.Bottom),
-			Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
-			HydraulicDepth: Float(s.HydraulicDepth), Conveyance: Float(s.Conveyance), Alpha: Float(s.Alpha),
-			Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
-			Froude: Float(s.Froude), Subsections: jsonSubs(s.Subs)}
+		js := saJSONSection(s)
 		if i < len(rep.Sections) {
 			js.Survey, js.Quality = rep.Sections[i].Survey, rep.Sections[i].Quality.String()
 		}
@@ -139,19 +134,34 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 			Relation: c.Relation, Pass: c.Pass, Status: c.Status(), Source: c.Source})
 	}
 	if u := rep.Uncertainty; u != nil {
-		ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
-			SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
-			MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDNm: Float(u.DQDNPerMilli), DQDH: []Float{}}
-		for _, v := range u.DQDH {
-			ju.DQDH = append(ju.DQDH, Float(v))
-		}
-		ju.WSSD = []Float{}
-		for _, v := range u.WaterSurfaceSD {
-			ju.WSSD = append(ju.WSSD, Float(v))
-		}
-		out.Uncertainty = ju
+		out.Uncertainty = saJSONUncertainty(u)
 	}
 	return writeJSON(w, out)
+}
+
+// saJSONSection is one section of the slope-area JSON, without its survey
+// and quality (from the reach table).
+func saJSONSection(s reach.SectionResult) jsonSASection {
+	return jsonSASection{ID: s.ID, Distance: Float(s.Distance), WSLeft: Float(s.Left), WSRight: Float(s.Right),
+		WaterSurface: Float(s.WaterSurface), MarksUsed: s.MarksUsed, Bottom: Float(s.Bottom),
+		Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
+		HydraulicDepth: Float(s.HydraulicDepth), Conveyance: Float(s.Conveyance), Alpha: Float(s.Alpha),
+		Velocity: Float(s.Velocity), VelocityHead: Float(s.VelocityHead), EnergyGrade: Float(s.EnergyGrade),
+		Froude: Float(s.Froude), Subsections: jsonSubs(s.Subs)}
+}
+
+// saJSONUncertainty is the Monte Carlo block of the slope-area JSON.
+func saJSONUncertainty(u *reach.Uncertainty) *jsonUncertainty {
+	ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
+		SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
+		MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDNm: Float(u.DQDNPerMilli), DQDH: []Float{}, WSSD: []Float{}}
+	for _, v := range u.DQDH {
+		ju.DQDH = append(ju.DQDH, Float(v))
+	}
+	for _, v := range u.WaterSurfaceSD {
+		ju.WSSD = append(ju.WSSD, Float(v))
+	}
+	return ju
 }
 
 // WriteSlopeAreaText writes a slope-area report for a reviewer: the
