@@ -306,6 +306,15 @@ func checkTarget(v float64, what string) error {
 //
 // Stages above an open section's top are searched as Geometry.At extends
 // it (built shapes exactly; surveys with vertical walls at the ends).
+//
+// Preconditions: opt.Slope positive and finite (else ErrSlope); q
+// positive and finite (else ErrTarget). A discharge no stage carries is
+// ErrNoRoot.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, chapter 6
+//	(uniform flow; section 6-4, the conveyance of a subdivided section).
 func NormalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error) {
 	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
 		return nil, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
@@ -401,6 +410,16 @@ func (s solver) sectionFactor(h, q float64) (float64, Row, error) {
 // stage range is scanned for sign changes and each is refined. Rising is
 // true where the Froude number falls as stage rises (a minimum of specific
 // energy).
+//
+// Preconditions: q positive and finite (else ErrTarget). A section in
+// which q is nowhere critical is ErrNoRoot.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 4-2.
+//	Blalock, M.E., and Sturm, T.W., 1981, Minimum specific energy in
+//	compound open channel: Journal of the Hydraulics Division, ASCE,
+//	107(HY6) (cited from memory).
 func CriticalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error) {
 	if err := checkTarget(q, "discharge"); err != nil {
 		return nil, err

@@ -130,13 +130,27 @@ func finiteAll(v ...float64) bool {
 	return true
 }
 
-// Compute rates geometry g at each stage. Stages may come in any order; rows
-// keep that order. A stage below the lowest ground gives a dry row.
+// Compute rates geometry g at each stage: the full hydraulics of
+// Hydraulics at friction slope opt.Slope (lengths, areas and discharges in
+// opt.Units), with opt.Composite merging the n of each region first.
+// Stages may come in any order; rows keep that order. A stage below the
+// lowest ground gives a dry row; a stage above an end extends the section
+// with a vertical wall, counted in the table's warnings.
 //
 // A *subdivide.Profile is rated in one sweep over the sorted stages
 // (subdivide.Profile.Sweep); any other geometry stage by stage with At.
 // Either way the table, or the error of the first failing stage in the
 // caller's order (with the rows before it), is the same.
+//
+// Preconditions: opt.Slope positive and finite (else ErrSlope). A wetted
+// subsection without Manning's n is ErrNoN; geometry errors are
+// subdivide's, wrapped.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, sections 2-7
+//	(energy and momentum coefficients) and 6-4 (conveyance of a
+//	subdivided section).
 func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error) {
 	g = CompositeGeometry(g, opt.Composite)
 	t := Table{
