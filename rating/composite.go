@@ -65,6 +65,11 @@ func ParseComposite(s string) (Composite, error) {
 // wetted perimeter are left out. It returns NaN when nothing is wetted or
 // c is Split, and 0 when a wetted part has no n (so that Hydraulics reports
 // the missing n).
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 6-7
+//	(Horton–Einstein, Pavlovskii and Lotter composite roughness).
 func CompositeN(c Composite, p, a, n []float64) float64 {
 	var pt, at, sum float64
 	for i := range p {

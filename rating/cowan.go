@@ -138,6 +138,14 @@ func baseFactor(col BaseColumn) CowanFactor {
 
 // CowanChannel returns the channel adjustments n1 to n4 and m (table 2),
 // a new slice on every call.
+//
+// References:
+//
+//	Cowan, W.L., 1956, Estimating hydraulic roughness coefficients:
+//	Agricultural Engineering, 37(7), 473–475.
+//	Arcement, G.J., Jr., and Schneider, V.R., 1989, Guide for selecting
+//	Manning's roughness coefficients for natural channels and flood plains:
+//	USGS Water-Supply Paper 2339, table 2.
 func CowanChannel() []CowanFactor {
 	return []CowanFactor{
 		{Symbol: "n1", Name: "degree of irregularity", Table: tableChannel, Choices: []CowanChoice{
@@ -175,6 +183,12 @@ func CowanChannel() []CowanFactor {
 // CowanFloodplain returns the flood-plain adjustments (table 3), a new
 // slice on every call; there is no variation of cross section (n2 = 0) and
 // no meandering (m = 1.0).
+//
+// References:
+//
+//	Arcement, G.J., Jr., and Schneider, V.R., 1989, Guide for selecting
+//	Manning's roughness coefficients for natural channels and flood plains:
+//	USGS Water-Supply Paper 2339, table 3.
 func CowanFloodplain() []CowanFactor {
 	return []CowanFactor{
 		{Symbol: "n1", Name: "degree of irregularity", Table: tableFloodplain, Choices: []CowanChoice{

@@ -101,6 +101,13 @@ func Conveyance(a, p, n float64, u Units) float64 {
 // (Chow, 1959, section 2-7; the conveyance-weighted form used in the
 // slope-area method, Dalrymple & Benson, 1967, USGS TWRI 3-A2).
 // bottom is the lowest ground elevation, from which Depth is counted.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, sections 2-7
+//	(energy and momentum coefficients) and 6-4 (subdivided conveyance).
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
+//	the slope-area method: USGS TWRI, book 3, chap. A2.
 func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 	if !(s > 0) || math.IsInf(s, 0) {
 		return Row{}, fmt.Errorf("slope %v: %w", s, ErrSlope)

@@ -484,6 +484,11 @@ func (s solver) energy(h, q float64) (float64, error) {
 // energy itself is minimised: the range up to the highest critical stage
 // (doubled in depth) is scanned and each local minimum refined by
 // golden-section search; the least is returned.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 3-2
+//	(specific energy and critical depth).
 func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoint, error) {
 	crit, err := CriticalStages(g, q, opt)
 	if err != nil {

@@ -126,6 +126,12 @@ type MarkDeparture struct {
 // the tolerance) rather than at the rating section.
 //
 // Errors are ComputeBackwater's, or ErrNoMarks when no section has a mark.
+//
+// References:
+//
+//	Davidian, J., 1984, Computation of water-surface profiles in open
+//	channels: USGS TWRI, book 3, chap. A15 (verification of a reach against
+//	the marks of a flood of known discharge).
 func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions) (Verification, error) {
 	v := Verification{Discharge: q, MeanDeparture: math.NaN(), MaxDeparture: math.NaN()}
 	marked := false

@@ -156,6 +156,13 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 // Preconditions: at least two sections, and the reach must solve
 // (SolveSlopeArea returns no error). Errors: ErrTooFewSections, the
 // reach's own error, or an error for more than MaxDraws draws.
+//
+// References:
+//
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
+//	the slope-area method: USGS TWRI, book 3, chap. A2 (the equation solved
+//	in every draw); Monte Carlo propagation of the n and mark errors is
+//	common practice.
 func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Uncertainty, error) {
 	var res SlopeArea
 	if len(secs) < 2 {

@@ -57,6 +57,11 @@ const FailedDrawsWarn = 0.01
 // caller. Errors are those of the methods, a *SectionError where one
 // section is at fault, ErrTooFewSections for one section without a slope,
 // or ErrSlopeForReach.
+//
+// References:
+//
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
+//	the slope-area method: USGS TWRI, book 3, chap. A2.
 func Estimate(secs []Section, opt EstimateOptions) (Report, error) {
 	rep := Report{Sections: secs}
 	if len(secs) == 1 {
