@@ -102,6 +102,9 @@ func Conveyance(a, p, n float64, u Units) float64 {
 // slope-area method, Dalrymple & Benson, 1967, USGS TWRI 3-A2).
 // bottom is the lowest ground elevation, from which Depth is counted.
 //
+// Errors: ErrSlope for a slope that is not positive and finite; ErrNoN for
+// a wetted subsection without Manning's n (naming its stations).
+//
 // References:
 //
 //	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, sections 2-7
