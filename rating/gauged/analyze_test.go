@@ -1,6 +1,7 @@
 package gauged_test
 
 import (
+	"errors"
 	"math"
 	"math/rand/v2"
 	"strings"
@@ -69,6 +70,49 @@ func TestTablePriorMatchesSection(t *testing.T) {
 	}
 	if _, err := gauged.TablePrior(tab, 0.3, 3, gauged.HydraulicPriorOptions{Part: gauged.OverbankPart}); err == nil {
 		t.Error("a table has no overbank share, yet a prior came back")
+	}
+}
+
+// A table that starts wet and stops short (a step-backwater ladder) gives
+// the prior over the part of the control's range it covers: the same as
+// the section's prior (HydraulicPrior) over that part, to the table's
+// interpolation; its source says so, and a table outside the range is
+// ErrPrior.
+func TestTablePriorPartCovered(t *testing.T) {
+	c := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	rt := gauged.RatingTable{Name: "ladder"}
+	for h := 0.8; h <= 2.0+1e-9; h += 0.02 {
+		q, err := c.Discharge(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rt.Points = append(rt.Points, gauged.RatingPoint{Stage: h, Discharge: q})
+	}
+	tab, err := rt.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := gauged.HydraulicPriorOptions{OffsetFixed: true, Offset: 0}
+	lo, hi := tab.Range()
+	want, err := gauged.HydraulicPrior(c, lo, hi, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := gauged.TablePrior(tab, 0.3, 3, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := math.Abs(got.LogCoefficient.Mean - want.LogCoefficient.Mean); d > interpTol {
+		t.Errorf("ln a %g, section over the table's part %g", got.LogCoefficient.Mean, want.LogCoefficient.Mean)
+	}
+	if d := math.Abs(got.Exponent.Mean - want.Exponent.Mean); d > interpTol {
+		t.Errorf("c %g, section over the table's part %g", got.Exponent.Mean, want.Exponent.Mean)
+	}
+	if !strings.Contains(got.Source, "the part of the control's range 0.3 to 3 that it covers") {
+		t.Errorf("source %q does not say the table covers part of the range", got.Source)
+	}
+	if _, err := gauged.TablePrior(tab, 2.5, 3, opt); !errors.Is(err, gauged.ErrPrior) {
+		t.Errorf("a range above the table: %v, want ErrPrior", err)
 	}
 }
 
@@ -321,5 +365,50 @@ func TestUncertaintyConvention(t *testing.T) {
 	g := gauged.Gauging{Quality: rating.Poor}
 	if math.Abs(g.LogSigma()-0.12/1.96) > 1e-4 || g.UncertaintyPercent() != 12 {
 		t.Errorf("poor: σ %g, U %g", g.LogSigma(), g.UncertaintyPercent())
+	}
+}
+
+// A Bayesian fit on a hydraulic rating table that starts wet (a
+// step-backwater ladder from 0.8 m) and stops below the highest gauging
+// takes the prior of ln A and C from the part of the range the table
+// covers, and no offset prior from the table's first row, which is not
+// where the flow starts: the offset's prior is flat and the fitted offset
+// finds the section's lowest point (0, the trapezoid's invert; the
+// gaugings are the section's own rating).
+func TestBayesWetTablePrior(t *testing.T) {
+	c := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	rt := gauged.RatingTable{Name: "ladder"}
+	for h := 0.8; h <= 2.0+1e-9; h += 0.05 {
+		q, err := c.Discharge(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rt.Points = append(rt.Points, gauged.RatingPoint{Stage: h, Discharge: q})
+	}
+	tab, err := rt.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	gs := gaugeTruth(t, c, linspace(0.3, 2.4, 14), nil)
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
+		HydraulicTable: tab, Chains: 2, Draws: 500, Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := findParam(f.Posterior, "b1")
+	a, _ := findParam(f.Posterior, "ln_a1")
+	if !math.IsNaN(b.PriorMean) {
+		t.Errorf("offset prior mean %g from the table's first row; want a flat prior", b.PriorMean)
+	}
+	if math.IsNaN(a.PriorMean) || a.PriorSD > 1 {
+		t.Errorf("ln a prior %g ± %g: want the table's, not a weak one", a.PriorMean, a.PriorSD)
+	}
+	if got := f.Rating.Controls[0].B; math.Abs(got) > 0.05 {
+		t.Errorf("fitted offset %g, want near the invert 0", got)
+	}
+	for _, w := range f.Warnings {
+		if strings.Contains(w, "weak priors instead") {
+			t.Errorf("warned %q", w)
+		}
 	}
 }

@@ -562,14 +562,17 @@ func (b *bayesProblem) remnantPrior() {
 
 // surveyBottom returns the survey's lowest point of control j's section
 // (gauge height): the crest's for a section control with a crest, the
-// gauge section's for a channel control with a section.
+// gauge section's for a channel control with a section, a hydraulic
+// rating table's dry foot when it has one. A table whose first row
+// already carries discharge (a step-backwater ladder) does not say where
+// the flow starts.
 func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
 	switch {
 	case b.m.kinds[j] == SectionControl && b.opt.Crest != nil:
 		return b.opt.Crest.Bottom(), true
 	case b.m.kinds[j] == ChannelControl && b.opt.Hydraulic != nil:
 		return b.opt.Hydraulic.Bottom(), true
-	case b.m.kinds[j] == ChannelControl && b.opt.HydraulicTable != nil:
+	case b.m.kinds[j] == ChannelControl && b.opt.HydraulicTable != nil && tableStartsDry(b.opt.HydraulicTable):
 		return TableBottom(b.opt.HydraulicTable), true
 	}
 	return 0, false

@@ -86,6 +86,12 @@ func TableBottom(t *TableRating) float64 {
 	return b
 }
 
+// tableStartsDry reports whether a hydraulic rating table says where its
+// flow starts: a zero-flow stage, or a first row without discharge.
+func tableStartsDry(t *TableRating) bool {
+	return t.table.HasZeroFlow || t.q[0] == 0
+}
+
 // tableDischarge is the table's discharge at h: zero at or below its
 // bottom when its first row is dry, an ErrBeyondTable error elsewhere
 // outside its rows.
@@ -143,7 +149,11 @@ func CompareTable(gs []Gauging, t *TableRating) Comparison {
 //
 // which assumes the table's discharges scale as 1/n and √S, as those of a
 // Manning computation do. Only the whole discharge is known, so
-// opt.Part must be WholeSection. Errors wrap ErrPrior.
+// opt.Part must be WholeSection. A table that covers only part of
+// from..to (a step-backwater ladder that starts above the lowest gauging
+// or stops below the highest) gives the prior over the part it covers,
+// and the prior's Source says so; no overlap is an error. Errors wrap
+// ErrPrior.
 //
 // References:
 //
@@ -156,7 +166,21 @@ func TablePrior(t *TableRating, from, to float64, opt HydraulicPriorOptions) (Co
 		return ControlPrior{}, fmt.Errorf("%w: a table gives the whole discharge only, not the channel's or the overbanks' share", ErrPrior)
 	}
 	q := func(h float64) (float64, error) { return tableDischarge(t, h) }
-	return curvePrior(q, TableBottom(t), from, to, opt, "hydraulic rating table "+t.Name())
+	lo, hi := t.Range()
+	wantFrom, wantTo := from, to
+	if from < lo && !tableStartsDry(t) {
+		from = lo
+	}
+	to = math.Min(to, hi)
+	if !(to > from) {
+		return ControlPrior{}, fmt.Errorf("%w: the table %s (gauge heights %s to %s) does not reach the control's range %s to %s",
+			ErrPrior, t.Name(), gh(lo), gh(hi), gh(wantFrom), gh(wantTo))
+	}
+	what := "hydraulic rating table " + t.Name()
+	if from != wantFrom || to != wantTo {
+		what += fmt.Sprintf(" (the part of the control's range %s to %s that it covers)", gh(wantFrom), gh(wantTo))
+	}
+	return curvePrior(q, TableBottom(t), from, to, opt, what)
 }
 
 // curvePrior fits the prior of a channel control to the discharge q of a
