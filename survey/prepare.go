@@ -11,9 +11,24 @@ import (
 
 // ErrRequest is the cause of every error in what was asked of Prepare
 // (rather than in the data read): an n override of the wrong length, bank
-// stations for a built shape, a file and a shape at once. Commands report
-// it as a mistake on the command line.
-var ErrRequest = errors.New("invalid request")
+// stations for a built shape or outside the section, a file and a shape
+// at once. Commands report it as a mistake on the command line. The
+// messages of such errors say what was asked and why it cannot be done,
+// without this sentinel's own words.
+var ErrRequest = errors.New("the request cannot be met")
+
+// requestError is an error in what was asked: errors.Is(err, ErrRequest)
+// holds, and its message is its cause's alone.
+type requestError struct{ err error }
+
+func (e requestError) Error() string        { return e.err.Error() }
+func (e requestError) Unwrap() error        { return e.err }
+func (e requestError) Is(target error) bool { return target == ErrRequest }
+
+// requestf makes an ErrRequest error; format may wrap with %w.
+func requestf(format string, args ...any) error {
+	return requestError{fmt.Errorf(format, args...)}
+}
 
 // SectionRequest says which section to prepare and how to adjust it. The
 // zero value of every override keeps the survey as read.
@@ -91,11 +106,11 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if req.Banks != nil {
 		for _, b := range req.Banks {
 			if math.Abs(b) > MaxCoordinate {
-				return nil, fmt.Errorf("%w: bank station %g is beyond ±%g", ErrRequest, b, float64(MaxCoordinate))
+				return nil, requestf("bank station %g is beyond ±%g", b, float64(MaxCoordinate))
 			}
 		}
 		if len(req.Banks) != 2 {
-			return nil, fmt.Errorf("%w: bank stations: want two, LEFT,RIGHT; got %d", ErrRequest, len(req.Banks))
+			return nil, requestf("bank stations: want two, LEFT,RIGHT; got %d", len(req.Banks))
 		}
 		sec.HasBanks, sec.LeftBank, sec.RightBank = true, req.Banks[0], req.Banks[1]
 	}
@@ -114,6 +129,10 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 		return nil, fmt.Errorf("%s: %w", p.Ground.Source, ErrNoN)
 	}
 	g, err := subdivide.Compile(sec)
+	if req.Banks != nil && errors.Is(err, subdivide.ErrBanks) {
+		return nil, requestf("bank stations %g,%g for %s (stations %g to %g): %w", req.Banks[0], req.Banks[1],
+			p.Ground.Source, sec.Points[0].Station, sec.Points[len(sec.Points)-1].Station, subdivide.ErrBanks)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", p.Ground.Source, err)
 	}
@@ -144,7 +163,7 @@ func Position(path, sheet string) string {
 func regionN(v []float64, hasBanks, needBanks bool) (subdivide.PerRegion, error) {
 	for _, n := range v {
 		if !(n >= MinN && n <= MaxN) {
-			return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n %v is not a plausible n (%g to %g)", ErrRequest, n, MinN, MaxN)
+			return subdivide.PerRegion{}, requestf("Manning's n %v is not a plausible n (%g to %g)", n, MinN, MaxN)
 		}
 	}
 	switch len(v) {
@@ -156,7 +175,7 @@ func regionN(v []float64, hasBanks, needBanks bool) (subdivide.PerRegion, error)
 		}
 		return subdivide.PerRegion{Left: v[0], Channel: v[1], Right: v[2]}, nil
 	}
-	return subdivide.PerRegion{}, fmt.Errorf("%w: Manning's n: want one value or three (LEFT,CHANNEL,RIGHT), got %d", ErrRequest, len(v))
+	return subdivide.PerRegion{}, requestf("Manning's n: want one value or three (LEFT,CHANNEL,RIGHT), got %d", len(v))
 }
 
 // highN warns of given n values above HighN, as the survey reader does
@@ -175,19 +194,19 @@ func highN(v []float64) []string {
 func prepareShape(req SectionRequest) (*Prepared, error) {
 	switch {
 	case req.Shape == "":
-		return nil, fmt.Errorf("%w: give a survey file or a built shape", ErrRequest)
+		return nil, requestf("give a survey file or a built shape")
 	case req.Path != "":
-		return nil, fmt.Errorf("%w: give a survey file or a built shape, not both", ErrRequest)
+		return nil, requestf("give a survey file or a built shape, not both")
 	case req.Banks != nil:
-		return nil, fmt.Errorf("%w: bank stations do not apply to a built shape (a compound shape's banks are its channel's top corners)", ErrRequest)
+		return nil, requestf("bank stations do not apply to a built shape (a compound shape's banks are its channel's top corners)")
 	case req.Sheet != "":
-		return nil, fmt.Errorf("%w: a sheet does not apply to a built shape", ErrRequest)
+		return nil, requestf("a sheet does not apply to a built shape")
 	case req.N == nil:
-		return nil, fmt.Errorf("%w: a built shape needs Manning's n", ErrRequest)
+		return nil, requestf("a built shape needs Manning's n")
 	}
 	sh, err := subdivide.ParseShape(req.Shape)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrRequest, err)
+		return nil, requestf("%w", err)
 	}
 	n, err := ShapeN(sh, req.N)
 	if err != nil {
@@ -195,7 +214,7 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 	}
 	g, err := sh.Build(n)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrRequest, err)
+		return nil, requestf("%w", err)
 	}
 	p := &Prepared{Shape: sh, Built: true, Units: req.Units, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
 	if !sh.Closed() {
@@ -216,7 +235,7 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 // given, takes precedence). Errors wrap ErrRequest.
 func ShapeN(sh subdivide.Shape, v []float64) (subdivide.PerRegion, error) {
 	if len(v) == 3 && sh.Kind != subdivide.Compound {
-		return subdivide.PerRegion{}, fmt.Errorf("%w: n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", ErrRequest, sh.Kind)
+		return subdivide.PerRegion{}, requestf("n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", sh.Kind)
 	}
 	return regionN(v, true, false)
 }

@@ -84,6 +84,12 @@ func (f *backwaterFlags) options(fs *flagSet) (reach.BackwaterReportOptions, err
 	if err := fs.positive("spread-tol", "verify"); err != nil {
 		return opt, err
 	}
+	if err := fs.within(rating.MaxDischarge, "discharges", "from", "to", "step", "verify"); err != nil {
+		return opt, err
+	}
+	if err := fs.within(survey.MaxElevation, "spread-tol"); err != nil {
+		return opt, err
+	}
 	for _, k := range []struct {
 		name string
 		v    float64

@@ -78,6 +78,9 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 	if err := fs.positive("step"); err != nil {
 		return err
 	}
+	if err := fs.within(survey.MaxElevation, "step", "stages", "zero-flow", "datum"); err != nil {
+		return err
+	}
 	if _, err := rating.ParseUnits(f.units); err != nil {
 		return usageError{err: err}
 	}
@@ -271,7 +274,7 @@ func (f *compareFlags) readSurveys(fs *flagSet, a, b string) ([2]*survey.Prepare
 		p, err := survey.Prepare(req)
 		if err != nil {
 			if errors.Is(err, survey.ErrRequest) {
-				return ps, nil, nil, usageError{err: err}
+				return ps, nil, nil, usageError{err: fmt.Errorf("compare: %w", err)}
 			}
 			return ps, nil, nil, err
 		}

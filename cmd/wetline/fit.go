@@ -254,7 +254,7 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	if err := f.checkSources(fs); err != nil {
 		return opt, err
 	}
-	if err := fs.within(survey.MaxElevation, "datum", "to", "step"); err != nil {
+	if err := fs.within(survey.MaxElevation, "datum", "to", "step", "breaks"); err != nil {
 		return opt, err
 	}
 	opt.ChannelOnly, opt.CompareOnly = f.channelOnly, f.compareOnly

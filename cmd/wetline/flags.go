@@ -109,16 +109,19 @@ func (fs *flagSet) positive(names ...string) error {
 	return nil
 }
 
-// within refuses a number flag that was given beyond ±limit: a typing
-// slip or a unit mistake rather than a value of a river.
+// within refuses a number flag, or any number of a list flag, that was
+// given beyond ±limit: a typing slip or a unit mistake rather than a value
+// of a river.
 func (fs *flagSet) within(limit float64, names ...string) error {
 	for _, n := range names {
 		f := fs.Lookup(n)
 		if f == nil || !f.Changed {
 			continue
 		}
-		if v, err := strconv.ParseFloat(f.Value.String(), 64); err == nil && math.Abs(v) > limit {
-			return usagef("%s: --%s %s is beyond ±%g: not a plausible value", fs.Name(), n, f.Value.String(), limit)
+		for _, item := range strings.Split(f.Value.String(), ",") {
+			if v, err := strconv.ParseFloat(item, 64); err == nil && math.Abs(v) > limit {
+				return usagef("%s: --%s %s is beyond ±%g: not a plausible value", fs.Name(), n, item, limit)
+			}
 		}
 	}
 	return nil

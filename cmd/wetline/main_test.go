@@ -144,7 +144,7 @@ func TestBadInputs(t *testing.T) {
 		{"bad units", []string{"rate", demoSurveyPath, "--slope", "0.001", "--units", "furlongs"}, 2, "furlongs"},
 		{"bad flag", []string{"rate", demoSurveyPath, "--slope", "0.001", "--frobnicate"}, 2, "frobnicate"},
 		{"bad n flag", []string{"rate", demoSurveyPath, "--slope", "0.001", "--n", "0.03,x,0.05"}, 2, "--n"},
-		{"banks outside", []string{"rate", demoSurveyPath, "--slope", "0.001", "--banks", "-5,50"}, 1, "bank stations"},
+		{"banks outside", []string{"rate", demoSurveyPath, "--slope", "0.001", "--banks", "-5,50"}, 2, "bank stations -5,50 for ../../testdata/tallow-xs1.csv (stations 0 to 120)"},
 		{"no extend", []string{"rate", demoSurveyPath, "--slope", "0.001", "--no-extend", "--stages", "105"}, 1, "above"},
 		{"three n without banks", []string{"rate", write("e.csv", "station,elevation,n\n0,1,0.03\n2,0,\n3,1,\n"), "--slope", "0.001", "--n", "0.03,0.03,0.03"}, 1, "needs bank stations"},
 		{"unknown command", []string{"rattle"}, 2, "unknown command"},
@@ -244,4 +244,33 @@ func demoOutput(t *testing.T) (dir, stdout string) {
 		t.Fatal(demoOnce.err)
 	}
 	return demoOnce.dir, demoOnce.stdout
+}
+
+// TestListFlagsBounded: every number of a list flag is held to the same
+// plausibility bound as a single number (±10⁵ for stages and elevations,
+// ±10⁸ for stations and discharges): one beyond it is a usage error
+// naming the flag and the value, before any input is read.
+func TestListFlagsBounded(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"rate stages", []string{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101,1e9"}, "--stages 1e+09"},
+		{"rate banks", []string{"rate", demoSurveyPath, "--slope", "0.001", "--banks", "10,3e8"}, "--banks 3e+08"},
+		{"compare stages", []string{"compare", demoSurveyPath, "demodata/tallow-xs1-2025.csv", "--stages", "-2e5"}, "--stages -200000"},
+		{"shifts zero flow", []string{"shifts", recGaugings, "--rating", recRatingA, "--zero-flow", "7e5"}, "--zero-flow 700000"},
+		{"record highest gauging", []string{"record", recStages, "--rating", recRatingA, "--highest-gauging", "1,2e6"}, "--highest-gauging 2e+06"},
+		{"fit breaks", []string{"fit", fitDemoGaugings, "--breaks", "1,5e5"}, "--breaks 500000"},
+		{"backwater discharges", []string{"backwater", "demodata/tallow-reach.csv", "--discharges", "5,2e9", "--boundary", "critical"}, "--discharges 2e+09"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			_, errs, code := runCLI(t, c.args...)
+			if code != 2 || !strings.Contains(errs, c.want) || !strings.Contains(errs, "not a plausible value") {
+				t.Errorf("exit %d, want 2 and %q: %s", code, c.want, errs)
+			}
+		})
+	}
 }

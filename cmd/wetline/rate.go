@@ -53,7 +53,7 @@ func (f *rateFlags) check(fs *flagSet) error {
 	if err := fs.positive("step"); err != nil {
 		return err
 	}
-	if err := fs.within(survey.MaxElevation, "from", "to", "step", "datum"); err != nil {
+	if err := fs.within(survey.MaxElevation, "from", "to", "step", "datum", "stages"); err != nil {
 		return err
 	}
 	if len(f.stages) > 0 && (fs.Changed("from") || fs.Changed("to") || fs.Changed("step")) {

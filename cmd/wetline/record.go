@@ -122,6 +122,9 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	if err != nil {
 		return h, nil, nil, err
 	}
+	if err := fs.within(survey.MaxElevation, "zero-flow", "highest-gauging", "datum"); err != nil {
+		return h, nil, nil, err
+	}
 	if len(hf.ratings) == 0 {
 		return h, nil, nil, usagef("%s: give the rating with --rating FILE (and --rating FILE@TIME for each later rating period)", hf.cmd)
 	}

@@ -137,6 +137,11 @@ func (sf *sectionFlags) request(path string) (survey.SectionRequest, error) {
 	if err != nil {
 		return survey.SectionRequest{}, usageError{err: err}
 	}
+	if sf.fs != nil {
+		if err := sf.fs.within(survey.MaxCoordinate, "banks", "line"); err != nil {
+			return survey.SectionRequest{}, err
+		}
+	}
 	co, err := sf.coords.options(sf.fs, u)
 	if err != nil {
 		return survey.SectionRequest{}, err
@@ -159,10 +164,7 @@ func (sf *sectionFlags) prepare(path string) (*survey.Prepared, error) {
 		return nil, err
 	}
 	p, err := survey.Prepare(req)
-	if errors.Is(err, survey.ErrRequest) {
-		return nil, usageError{err: err}
-	}
-	return p, err
+	return p, sf.requestError(err)
 }
 
 // prepareIn is prepare for a section that must be in unit system u (that
@@ -174,10 +176,19 @@ func (sf *sectionFlags) prepareIn(path string, u rating.Units) (*survey.Prepared
 	}
 	req.Units, req.UnitsGiven = u, true
 	p, err := survey.Prepare(req)
-	if errors.Is(err, survey.ErrRequest) {
-		return nil, usageError{err: err}
+	return p, sf.requestError(err)
+}
+
+// requestError makes an error in what the flags asked of a survey a
+// usage error naming the command; other errors pass unchanged.
+func (sf *sectionFlags) requestError(err error) error {
+	if !errors.Is(err, survey.ErrRequest) {
+		return err
 	}
-	return p, err
+	if sf.fs != nil {
+		err = fmt.Errorf("%s: %w", sf.fs.Name(), err)
+	}
+	return usageError{err: err}
 }
 
 // failed words an error from computing on a prepared section: a stage

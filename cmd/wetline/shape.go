@@ -46,7 +46,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	var nv subdivide.PerRegion
 	if len(n) > 0 {
 		if nv, err = survey.ShapeN(sh, n); errors.Is(err, survey.ErrRequest) {
-			return usageError{err: err}
+			return usageError{err: fmt.Errorf("shape: %w", err)}
 		}
 	}
 	sec, err := sh.Section(nv)
