@@ -81,6 +81,48 @@ type SubRow struct {
 	Conveyance, Discharge, Velocity float64
 }
 
+// FoldWalls returns the subsections as they convey by the split method.
+// A subsection of no width (a vertical wall whose n differs from the
+// ground beside it, Subsection.Wall ≠ 0) holds no water, so it cannot
+// convey on its own: its wetted perimeter joins the subsection its wall
+// faces, whose Manning's n becomes the Horton–Einstein composite of the
+// two,
+//
+//	n = ((P·n^1.5 + Pw·nw^1.5) / (P + Pw))^(2/3),
+//
+// and the wall keeps no perimeter. Without this the wall's perimeter, and
+// so its friction, would be lost, and a rougher wall would raise the
+// discharge. A wall without n takes the n of the subsection it joins.
+// subs is returned as it is (not copied) when no wall is wet.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 6-7
+//	(composite roughness, Horton–Einstein).
+func FoldWalls(subs []subdivide.SubWetted) []subdivide.SubWetted {
+	var out []subdivide.SubWetted
+	for i, s := range subs {
+		j := i + s.Wall
+		if s.Wall == 0 || !(s.WettedPerimeter > 0) || j < 0 || j >= len(subs) || !(subs[j].Area > 0) {
+			continue
+		}
+		if out == nil {
+			out = append([]subdivide.SubWetted(nil), subs...)
+		}
+		t, pw, nw := &out[j], s.WettedPerimeter, s.N
+		if nw > 0 && t.N > 0 {
+			sum := t.WettedPerimeter*math.Pow(t.N, 1.5) + pw*math.Pow(nw, 1.5)
+			t.N = math.Pow(sum/(t.WettedPerimeter+pw), 2.0/3)
+		}
+		t.WettedPerimeter += pw
+		out[i].WettedPerimeter = 0
+	}
+	if out == nil {
+		return subs
+	}
+	return out
+}
+
 // Conveyance returns Manning's conveyance K = (k/n)·A·R^(2/3) of a single
 // subsection with area a, wetted perimeter p and roughness n; zero when dry.
 //
@@ -100,7 +142,9 @@ func Conveyance(a, p, n float64, u Units) float64 {
 //
 // (Chow, 1959, section 2-7; the conveyance-weighted form used in the
 // slope-area method, Dalrymple & Benson, 1967, USGS TWRI 3-A2).
-// bottom is the lowest ground elevation, from which Depth is counted.
+// bottom is the lowest ground elevation, from which Depth is counted. A
+// vertical wall with its own n, a subsection of no width, conveys with the
+// subsection it faces (FoldWalls); the rows report the folded subsections.
 //
 // Errors: ErrSlope for a slope that is not positive and finite; ErrNoN for
 // a wetted subsection without Manning's n (naming its stations).
@@ -128,7 +172,7 @@ func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 	}
 	root := math.Sqrt(s)
 	var k3a2, k2a float64
-	for i, sw := range w.Subs {
+	for i, sw := range FoldWalls(w.Subs) {
 		sr := SubRow{SubWetted: sw, Velocity: math.NaN()}
 		if sw.Area > 0 {
 			if !(sw.N > 0) {

@@ -214,3 +214,40 @@ func TestConveyanceDropFlag(t *testing.T) {
 		t.Error("no warning about the conveyance drop")
 	}
 }
+
+// TestWallsConvey: vertical walls with their own n are subsections of no
+// width; their wetted perimeter joins the subsection they face with the
+// Horton–Einstein composite n (Chow 1959, section 6-7), so a rougher wall
+// lowers the discharge. Rectangle 5 m wide, walls n = 0.1, bed n = 0.03,
+// depth 1 m, S = 0.001 (SI), by hand: A = 5, P = 7,
+//
+//	n = ((5·0.03^1.5 + 2·1·0.1^1.5)/7)^(2/3) = 0.054594…,
+//	Q = 5·(5/7)^(2/3)·√0.001/n = 2.3138…;
+//
+// with walls of the bed's n, 0.03, the section is one subsection and
+// Q = 5·(5/7)^(2/3)·√0.001/0.03 = 4.2106…
+func TestWallsConvey(t *testing.T) {
+	box := func(wall float64) *subdivide.Profile {
+		return compile(t, subdivide.Section{Points: []subdivide.Point{{Station: 0, Elevation: 3}, {Station: 0, Elevation: 0},
+			{Station: 5, Elevation: 0}, {Station: 5, Elevation: 3}}, N: []float64{wall, 0.03, wall}})
+	}
+	horton := math.Pow((5*math.Pow(0.03, 1.5)+2*math.Pow(0.1, 1.5))/7, 2.0/3)
+	want := 5 * math.Pow(5.0/7, 2.0/3) * math.Sqrt(0.001) / horton
+	rough := rowAt(t, box(0.1), 1, 0.001, SI)
+	if relErr(rough.Discharge, want) > 1e-12 {
+		t.Errorf("walls n 0.1: Q = %.6g, want %.6g (Horton–Einstein over bed and walls)", rough.Discharge, want)
+	}
+	if p := rough.Subs[1].WettedPerimeter; relErr(p, 7) > 1e-12 || rough.Subs[0].WettedPerimeter != 0 || rough.Subs[2].WettedPerimeter != 0 {
+		t.Errorf("perimeters %g, %g, %g: want the walls' 1 + 1 in the bed's 5", rough.Subs[0].WettedPerimeter, p, rough.Subs[2].WettedPerimeter)
+	}
+	if relErr(rough.WettedPerimeter, 7) > 1e-12 {
+		t.Errorf("section perimeter %g, want 7", rough.WettedPerimeter)
+	}
+	smooth := rowAt(t, box(0.03), 1, 0.001, SI)
+	if w := 5 * math.Pow(5.0/7, 2.0/3) * math.Sqrt(0.001) / 0.03; relErr(smooth.Discharge, w) > 1e-12 {
+		t.Errorf("walls n 0.03: Q = %.6g, want %.6g", smooth.Discharge, w)
+	}
+	if !(rough.Discharge < smooth.Discharge) {
+		t.Errorf("rougher walls carry more: %g against %g", rough.Discharge, smooth.Discharge)
+	}
+}

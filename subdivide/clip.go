@@ -151,6 +151,14 @@ func Compile(s Section) (*Profile, error) {
 		} else {
 			p.subs[last].To = pts[i+1].Station
 		}
+		if sub := &p.subs[len(p.subs)-1]; sub.From != sub.To {
+			sub.Wall = 0
+		} else if sub.Wall == 0 {
+			sub.Wall = -1 // rising left to right: the water stands to its left
+			if pts[i+1].Elevation < pts[i].Elevation {
+				sub.Wall = 1
+			}
+		}
 		p.seg[i] = len(p.subs) - 1
 	}
 	// The main channel's lowest point anchors the connected reach.

@@ -201,10 +201,10 @@ func TestSubsections(t *testing.T) {
 	p := mustCompile(t, leveeSection())
 	subs := p.Subsections()
 	want := []Subsection{
-		{0, 2, 0.03, LeftOverbank},
-		{2, 10, 0.03, Channel},
-		{10, 14, 0.05, RightOverbank},
-		{14, 20, 0.06, RightOverbank},
+		{From: 0, To: 2, N: 0.03, Region: LeftOverbank},
+		{From: 2, To: 10, N: 0.03, Region: Channel},
+		{From: 10, To: 14, N: 0.05, Region: RightOverbank},
+		{From: 14, To: 20, N: 0.06, Region: RightOverbank},
 	}
 	if len(subs) != len(want) {
 		t.Fatalf("subsections %+v, want %+v", subs, want)
@@ -382,4 +382,25 @@ func integrateDepth(pts []Point, h float64) float64 {
 		sum += integrate.Trapezoidal(xs, fs)
 	}
 	return sum
+}
+
+// TestWallSubsections: vertical walls whose n differs from the bed's are
+// subsections of no width that say which way they face: a wall falling
+// left to right (the left end) faces right, a rising one faces left.
+func TestWallSubsections(t *testing.T) {
+	p := mustCompile(t, Section{Points: []Point{{0, 3}, {0, 0}, {5, 0}, {5, 3}}, N: []float64{0.1, 0.03, 0.1}})
+	want := []Subsection{
+		{From: 0, To: 0, N: 0.1, Region: Channel, Wall: 1},
+		{From: 0, To: 5, N: 0.03, Region: Channel},
+		{From: 5, To: 5, N: 0.1, Region: Channel, Wall: -1},
+	}
+	got := p.Subsections()
+	if len(got) != len(want) {
+		t.Fatalf("subsections %+v, want %+v", got, want)
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Errorf("subsection %d = %+v, want %+v", i, got[i], want[i])
+		}
+	}
 }

@@ -94,6 +94,13 @@ type Subsection struct {
 	N float64
 	// Region is the part of the section it lies in.
 	Region Region
+	// Wall is 0 for a subsection with width. A subsection of no width is a
+	// vertical wall whose n differs from the ground beside it: it holds no
+	// water, only wetted perimeter, and Wall is -1 when the wall faces the
+	// subsection on its left (the ground is lower there, so that is where
+	// the water against it stands) or +1 when it faces the one on its
+	// right.
+	Wall int
 }
 
 // A ValidationError reports a section that cannot be used.

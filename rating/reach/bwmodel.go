@@ -127,8 +127,10 @@ func (a *bwAccum) finish() {
 // bwBand is one stage band (lo, hi] of a section: see the file comment.
 type bwBand struct {
 	lo, hi float64
-	// polys are the subsections' coefficients (nil when direct).
-	polys []bwPoly
+	// polys are the subsections' coefficients (nil when direct);
+	// hasWalls reports a subsection of no width among them.
+	polys    []bwPoly
+	hasWalls bool
 	// walls and pools are as sampled inside the band.
 	walls bool
 	pools int
@@ -143,6 +145,7 @@ type bwPoly struct {
 	a0, t0, t1, p0, p1 float64
 	n                  float64
 	region             subdivide.Region
+	wall               int // subdivide.Subsection.Wall
 }
 
 // bwModel is a section prepared for repeated evaluation.
@@ -223,7 +226,8 @@ func (m *bwModel) fitBand(b *bwBand, w []subdivide.Wetted, errs []error, h []flo
 		if math.Abs(a0-s0.Area) <= BandMatchTolerance*s1.Area {
 			a0 = s0.Area
 		}
-		b.polys[i] = bwPoly{a0: math.Max(a0, 0), t0: t0, t1: t1, p0: p0, p1: p1, n: s1.N, region: s1.Region}
+		b.polys[i] = bwPoly{a0: math.Max(a0, 0), t0: t0, t1: t1, p0: p0, p1: p1, n: s1.N, region: s1.Region, wall: s1.Wall}
+		b.hasWalls = b.hasWalls || s1.Wall != 0
 	}
 }
 
@@ -325,7 +329,7 @@ func (m *bwModel) stateIn(j int, h float64, st *bwState) error {
 		if err != nil {
 			return err
 		}
-		for _, s := range w.Subs {
+		for _, s := range rating.FoldWalls(w.Subs) {
 			if err := acc.add(s.Area, s.WettedPerimeter, s.TopWidth, s.N, s.Region); err != nil {
 				return fmt.Errorf("stations %g to %g: %w", s.From, s.To, err)
 			}
@@ -335,6 +339,9 @@ func (m *bwModel) stateIn(j int, h float64, st *bwState) error {
 		return nil
 	}
 	d := h - b.lo
+	if b.hasWalls {
+		return m.stateWalls(b, d, &acc, st)
+	}
 	for i := range b.polys {
 		p := &b.polys[i]
 		a := math.Max(p.a0+(p.t0+0.5*p.t1*d)*d, 0)
@@ -342,6 +349,30 @@ func (m *bwModel) stateIn(j int, h float64, st *bwState) error {
 		per := math.Max(p.p0+p.p1*d, 0)
 		if err := acc.add(a, per, t, p.n, p.region); err != nil {
 			sub := m.g.Subsections()
+			if i < len(sub) {
+				return fmt.Errorf("stations %g to %g: %w", sub[i].From, sub[i].To, err)
+			}
+			return err
+		}
+	}
+	acc.finish()
+	st.walls, st.pools = b.walls, b.pools
+	return nil
+}
+
+// stateWalls is stateIn's fitted band with walls among its subsections:
+// the subsections at height d above the band's foot, the walls folded
+// into the subsections they face (rating.FoldWalls), summed into st.
+func (m *bwModel) stateWalls(b *bwBand, d float64, acc *bwAccum, st *bwState) error {
+	subs := make([]subdivide.SubWetted, len(b.polys))
+	for i := range b.polys {
+		p := &b.polys[i]
+		subs[i] = subdivide.SubWetted{Subsection: subdivide.Subsection{N: p.n, Region: p.region, Wall: p.wall},
+			Area: math.Max(p.a0+(p.t0+0.5*p.t1*d)*d, 0), TopWidth: math.Max(p.t0+p.t1*d, 0), WettedPerimeter: math.Max(p.p0+p.p1*d, 0)}
+	}
+	sub := m.g.Subsections()
+	for i, s := range rating.FoldWalls(subs) {
+		if err := acc.add(s.Area, s.WettedPerimeter, s.TopWidth, s.N, s.Region); err != nil {
 			if i < len(sub) {
 				return fmt.Errorf("stations %g to %g: %w", sub[i].From, sub[i].To, err)
 			}

@@ -335,6 +335,7 @@ type saSectionState struct {
 	k, alpha float64
 	c        float64 // α/A², so that hv = c·Q²/(2g)
 	subK     []float64
+	scratch  []subdivide.SubWetted // the subsections with n scaled, for a draw
 }
 
 // saState wets a section at ws, with each subsection's n multiplied by
@@ -344,21 +345,30 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 	if err != nil {
 		return err
 	}
+	subs := w.Subs
+	if nmul != nil {
+		st.scratch = append(st.scratch[:0], w.Subs...)
+		for i := range st.scratch {
+			st.scratch[i].N *= nmul[i]
+		}
+		subs = st.scratch
+	}
+	subs = rating.FoldWalls(subs) // walls convey with what they face
+	if nmul == nil {
+		w.Subs = subs
+	}
 	st.w = w
 	if cap(st.subK) < len(w.Subs) {
 		st.subK = make([]float64, len(w.Subs))
 	}
 	st.subK = st.subK[:len(w.Subs)]
 	var kt, k3a2 float64
-	for i, sw := range w.Subs {
+	for i, sw := range subs {
 		st.subK[i] = 0
 		if sw.Area <= 0 {
 			continue
 		}
 		n := sw.N
-		if nmul != nil {
-			n *= nmul[i]
-		}
 		if !(n > 0) {
 			return fmt.Errorf("stations %g to %g: %w", sw.From, sw.To, rating.ErrNoN)
 		}
