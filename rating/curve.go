@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"wetline/subdivide"
 )
@@ -94,4 +95,15 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 		}
 	}
 	return 0.5 * (lo + hi), nil
+}
+
+// DatumTerm words the datum term of "elevation = gauge height ± D": "+ 10
+// m" or "- 10 m" for d = ±10 in unit system u, d to six significant
+// digits.
+func DatumTerm(d float64, u Units) string {
+	sign := "+"
+	if d < 0 {
+		sign, d = "-", -d
+	}
+	return fmt.Sprintf("%s %s %s", sign, strconv.FormatFloat(d, 'g', 6, 64), u.Length())
 }
