@@ -97,13 +97,13 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 	return 0.5 * (lo + hi), nil
 }
 
-// DatumTerm words the datum term of "elevation = gauge height ± D": "+ 10
-// m" or "- 10 m" for d = ±10 in unit system u, d to six significant
-// digits.
-func DatumTerm(d float64, u Units) string {
+// DatumTerm words the datum term of "elevation = gauge height ± D": "+ 10"
+// or "- 10" for d = ±10 (length unit, to six significant digits; the
+// caller writes the unit).
+func DatumTerm(d float64) string {
 	sign := "+"
 	if d < 0 {
 		sign, d = "-", -d
 	}
-	return fmt.Sprintf("%s %s %s", sign, strconv.FormatFloat(d, 'g', 6, 64), u.Length())
+	return sign + " " + strconv.FormatFloat(d, 'g', 6, 64)
 }

@@ -554,3 +554,16 @@ func TestAnswerAboveEnds(t *testing.T) {
 		}
 	})
 }
+
+// DatumTerm writes the sign of the datum as a word of the equation,
+// never "+ -10" (values by hand).
+func TestDatumTerm(t *testing.T) {
+	for _, tc := range []struct {
+		d    float64
+		want string
+	}{{100, "+ 100"}, {-10, "- 10"}, {0, "+ 0"}, {-0.1234567, "- 0.123457"}} {
+		if got := DatumTerm(tc.d); got != tc.want {
+			t.Errorf("DatumTerm(%g) = %q, want %q", tc.d, got, tc.want)
+		}
+	}
+}

@@ -57,7 +57,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	}
 	notes := append([]string(nil), cal.Warnings...)
 	notes = append(notes, fmt.Sprintf(
-		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s): %s multiplied by %.4f; standard error against them %s",
-		cal.Used, plural, source, rating.DatumTerm(c.Datum, u), which, cal.Factor, se))
+		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s %s): %s multiplied by %.4f; standard error against them %s",
+		cal.Used, plural, source, rating.DatumTerm(c.Datum), u.Length(), which, cal.Factor, se))
 	return scaled, notes, nil
 }
