@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 
 	"wetline/subdivide"
 )
@@ -94,4 +95,15 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 		}
 	}
 	return 0.5 * (lo + hi), nil
+}
+
+// DatumTerm words the datum term of "elevation = gauge height ± D": "+ 10"
+// or "- 10" for d = ±10 (length unit, to six significant digits; the
+// caller writes the unit).
+func DatumTerm(d float64) string {
+	sign := "+"
+	if d < 0 {
+		sign, d = "-", -d
+	}
+	return sign + " " + strconv.FormatFloat(d, 'g', 6, 64)
 }

@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"strconv"
+	"strings"
 	"testing"
 
 	"wetline/subdivide"
@@ -484,5 +485,85 @@ func TestSearchAboveTop(t *testing.T) {
 	p2, _ := subdivide.Compile(sec)
 	if _, err := NormalStages(p2, 50, opt); err == nil {
 		t.Error("survey with NoExtend: a stage above its ends was returned")
+	}
+}
+
+// Answer warns of every stage it reports above an end of the section, as
+// Rate does; a conduit given more than it carries part full reports its
+// critical stage, with a warning that there is no normal stage.
+//
+// Hand values, the rectangle 5 m wide with walls 3 m high (n 0.04):
+//   - area 100 m2 is held at stage 100/5 = 20 m, walls 17 m high added;
+//   - stage 10 m is 7 m above the walls' tops;
+//   - 200 m3/s: q = 40 m2/s, critical depth (q^2/g)^(1/3) =
+//     (1600/9.80665)^(1/3) = 5.4643 m (Chow 1959, eq. 3-11; g the
+//     standard 9.80665 m/s2), 2.4643 m above
+//     the walls' tops.
+//
+// The circle 1.2 m across, n 0.013, slope 0.003: the greatest part-full
+// discharge is 2.297 m3/s, below 2.6 m3/s, so there is no normal stage;
+// the critical stage yc is checked against Q^2/g = A^3/T with the circular
+// segment's A = r^2 (θ - sin θ)/2, T = 2 sqrt(yc (D - yc)),
+// θ = 2 acos(1 - yc/r) (Chow 1959, table 2-1), computed here.
+func TestAnswerAboveEnds(t *testing.T) {
+	rect := mustShape(t, "rectangle:width=5,height=3", 0.04)
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name  string
+		q     Query
+		slope float64
+		want  []string
+	}{
+		{"area", Query{Discharge: nan, Area: 100, Stage: nan}, 0, []string{"stage 20.0000 m is above an end of the section: vertical walls were added there (up to 17.0000 m high)"}},
+		{"stage", Query{Discharge: nan, Area: nan, Stage: 10}, 0.001, []string{"stage 10.0000 m is above an end of the section: vertical walls were added there (up to 7.0000 m high)"}},
+		{"critical", Query{Discharge: 200, Area: nan, Stage: nan}, 0.001, []string{"critical stage 5.4643 m is above an end of the section: vertical walls were added there (up to 2.4643 m high)", "normal stage"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rep, err := Answer(rect, tc.q, Options{Slope: tc.slope})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(rep.Warnings, "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("warnings %q lack %q", rep.Warnings, w)
+				}
+			}
+		})
+	}
+	t.Run("conduit over capacity", func(t *testing.T) {
+		const d, q = 1.2, 2.6
+		rep, err := Answer(mustShape(t, "circle:diameter=1.2", 0.013), Query{Discharge: q, Area: nan, Stage: nan}, Options{Slope: 0.003})
+		if err != nil {
+			t.Fatal(err)
+		}
+		sol := rep.Discharge
+		if len(sol.Normal) != 0 || len(sol.Critical) != 1 {
+			t.Fatalf("%d normal, %d critical stages", len(sol.Normal), len(sol.Critical))
+		}
+		if !strings.Contains(strings.Join(rep.Warnings, "\n"), "more than the conduit carries part full at slope 0.003 (at most 2.297 m3/s, at stage 1.1258 m): there is no normal stage") {
+			t.Errorf("warnings %q", rep.Warnings)
+		}
+		yc, r := sol.Critical[0].Stage, d/2
+		th := 2 * math.Acos(1-yc/r)
+		a := r * r * (th - math.Sin(th)) / 2
+		w := 2 * math.Sqrt(yc*(d-yc))
+		const closeCritical = 1e-3 // relative, of the stage's tolerance
+		if got := q * q * w / (9.80665 * a * a * a); math.Abs(got-1) > closeCritical {
+			t.Errorf("critical stage %g: Q²T/(gA³) = %g, want 1", yc, got)
+		}
+	})
+}
+
+// DatumTerm writes the sign of the datum as a word of the equation,
+// never "+ -10" (values by hand).
+func TestDatumTerm(t *testing.T) {
+	for _, tc := range []struct {
+		d    float64
+		want string
+	}{{100, "+ 100"}, {-10, "- 10"}, {0, "+ 0"}, {-0.1234567, "- 0.123457"}} {
+		if got := DatumTerm(tc.d); got != tc.want {
+			t.Errorf("DatumTerm(%g) = %q, want %q", tc.d, got, tc.want)
+		}
 	}
 }

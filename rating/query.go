@@ -91,12 +91,18 @@ func Answer(g subdivide.Geometry, q Query, opt Options) (SolveReport, error) {
 		}
 		rep.Area = &AreaAnswer{Area: q.Area, Root: r, TopWidth: w.TopWidth, WettedPerimeter: w.WettedPerimeter,
 			HydraulicRadius: w.HydraulicRadius, Full: w.Full}
+		rep.Warnings = append(rep.Warnings, aboveEndWarning("stage", r.Stage, w.ExtendedLeft, w.ExtendedRight, opt.Units)...)
 	default:
 		qc, err := CriticalDischarge(g, q.Stage, opt)
 		if err != nil {
 			return rep, err
 		}
 		a := &StageAnswer{Stage: q.Stage, CriticalDischarge: qc, UniformDischarge: math.NaN()}
+		w, err := CompositeGeometry(g, opt.Composite).At(q.Stage, opt.Geometry)
+		if err != nil {
+			return rep, err
+		}
+		rep.Warnings = append(rep.Warnings, aboveEndWarning("stage", q.Stage, w.ExtendedLeft, w.ExtendedRight, opt.Units)...)
 		if opt.Slope > 0 {
 			t, err := Compute(g, []float64{q.Stage}, opt)
 			if err != nil {

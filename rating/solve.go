@@ -121,8 +121,11 @@ func (sol *Solution) solveNormal(g subdivide.Geometry, s *solver, opt Options) e
 	}
 	roots, err := NormalStages(g, q, opt)
 	if errors.Is(err, ErrNoRoot) && sol.Closed {
-		return fmt.Errorf("discharge %g %s is more than the conduit carries part full at slope %g (at most %.4g %s, at stage %.4f %s): %w",
-			q, u.Discharge(), opt.Slope, sol.PeakDischarge, u.Discharge(), sol.PeakStage, u.Length(), ErrNoRoot)
+		// No normal stage: the critical stage is still reported.
+		sol.Warnings = append(sol.Warnings, fmt.Sprintf(
+			"discharge %g %s is more than the conduit carries part full at slope %g (at most %.4g %s, at stage %.4f %s): there is no normal stage; in uniform flow it would run full under pressure",
+			q, u.Discharge(), opt.Slope, sol.PeakDischarge, u.Discharge(), sol.PeakStage, u.Length()))
+		return nil
 	}
 	if err != nil {
 		return err
@@ -133,10 +136,7 @@ func (sol *Solution) solveNormal(g subdivide.Geometry, s *solver, opt Options) e
 			return err
 		}
 		sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
-		if row.ExtendedLeft > 0 || row.ExtendedRight > 0 {
-			sol.Warnings = append(sol.Warnings, fmt.Sprintf(
-				"normal stage %.4f %s is above an end of the section: vertical walls were added there", r.Stage, u.Length()))
-		}
+		sol.Warnings = append(sol.Warnings, aboveEndWarning("normal stage", r.Stage, row.ExtendedLeft, row.ExtendedRight, u)...)
 	}
 	if len(roots) > 1 {
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf(
@@ -164,9 +164,21 @@ func (sol *Solution) solveCritical(g subdivide.Geometry, s *solver, opt Options)
 			return err
 		}
 		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e})
+		sol.Warnings = append(sol.Warnings, aboveEndWarning("critical stage", c.Stage, row.ExtendedLeft, row.ExtendedRight, opt.Units)...)
 	}
 	if len(crit) > 1 {
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf("%d critical stages: the section is compound, so flow can pass through critical more than once", len(crit)))
 	}
 	return nil
+}
+
+// aboveEndWarning warns, when left or right (the heights of the walls
+// added at the section's ends, length unit) is positive, that what (a
+// stage named for the reader) at stage lies above an end of the section.
+func aboveEndWarning(what string, stage, left, right float64, u Units) []string {
+	if !(left > 0 || right > 0) {
+		return nil
+	}
+	return []string{fmt.Sprintf("%s %.4f %s is above an end of the section: vertical walls were added there (up to %.4f %s high)",
+		what, stage, u.Length(), math.Max(left, right), u.Length())}
 }

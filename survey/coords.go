@@ -323,7 +323,7 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 		r.bankRows[0], r.bankRows[1] = r.bankRows[1], r.bankRows[0]
 	}
 	sv.Projection = pr
-	r.offsetWarnings(recs)
+	r.offsetWarnings(recs, opt.Feet)
 	return nil
 }
 
@@ -365,13 +365,11 @@ func (r *sectionReader) reverseN() error {
 }
 
 // offsetWarnings states how the stations were made and warns of each
-// point farther off the line than the tolerance.
-func (r *sectionReader) offsetWarnings(recs []Record) {
+// point farther off the line than the tolerance (in feet when feet is
+// asked for and the headers name no unit).
+func (r *sectionReader) offsetWarnings(recs []Record, feet bool) {
 	pr, t := r.sv.Projection, r.t
-	unit := ""
-	if r.sv.Units.Found {
-		unit = " " + r.sv.Units.Units.Length()
-	}
+	unit := " " + lengthUnit(r.sv.Units, feet)
 	far := 0
 	var worst int
 	for k, d := range pr.Offsets {

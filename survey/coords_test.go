@@ -204,7 +204,9 @@ func TestCoordinateSurveyLineGiven(t *testing.T) {
 	}
 }
 
-// Points far off the line are warned about, at their row and column.
+// Points far off the line are warned about, at their row and column,
+// with their unit (metres: the headers name none and feet were not asked
+// for; the default tolerance 0.5 m).
 func TestCoordinateSurveyOffsetWarning(t *testing.T) {
 	off := append([]float64(nil), skewOff...)
 	off[3] = 1.7
@@ -214,7 +216,7 @@ func TestCoordinateSurveyOffsetWarning(t *testing.T) {
 		t.Fatal(err)
 	}
 	w := strings.Join(sv.Warnings, "\n")
-	if !strings.Contains(w, "xs.csv:5:1: easting ") || !strings.Contains(w, "the point lies 1.7 off the section line, more than the tolerance 0.5") {
+	if !strings.Contains(w, "xs.csv:5:1: easting ") || !strings.Contains(w, "the point lies 1.7 m off the section line, more than the tolerance 0.5 m") {
 		t.Errorf("warnings:\n%s", w)
 	}
 	if !strings.Contains(w, "projected from eastings and northings onto "+LineFromPins) {

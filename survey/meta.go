@@ -19,6 +19,14 @@ const (
 	MetaCrew     = "crew"
 )
 
+// BuiltPrefix begins the comment line the shape command writes above a
+// built section ("# Built section rectangle:width=5, lengths in m; ...").
+// A CSV file with such a line has Meta[MetaBuilt] set to the rest of it.
+const (
+	BuiltPrefix = "Built section "
+	MetaBuilt   = "built"
+)
+
 // MetaKeys returns the metadata keys in their usual order.
 func MetaKeys() []string {
 	return []string{MetaSite, MetaSiteID, MetaSurveyed, MetaDatum, MetaCrew}
@@ -49,6 +57,13 @@ func csvMeta(data []byte) map[string]string {
 		}
 		if !strings.HasPrefix(line, "#") {
 			break // the header: key lines stand above it
+		}
+		if rest, built := strings.CutPrefix(strings.TrimSpace(strings.TrimPrefix(line, "#")), BuiltPrefix); built {
+			if meta == nil {
+				meta = map[string]string{}
+			}
+			meta[MetaBuilt] = rest
+			continue
 		}
 		k, v, ok := strings.Cut(strings.TrimPrefix(line, "#"), ":")
 		if !ok {

@@ -230,12 +230,18 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 	return p, nil
 }
 
-// ShapeN turns a given n into n by region for a built shape: one value,
-// or LEFT,CHANNEL,RIGHT for a compound shape (whose floodplain key, when
-// given, takes precedence). Errors wrap ErrRequest.
+// ShapeN turns a given n into n by region for a built shape: one value
+// (the floodplains of a compound shape taking its floodn key, when
+// given), or LEFT,CHANNEL,RIGHT for a compound shape without floodn.
+// Errors wrap ErrRequest: three values for another shape, or with floodn,
+// which would give the floodplains' n twice.
 func ShapeN(sh subdivide.Shape, v []float64) (subdivide.PerRegion, error) {
 	if len(v) == 3 && sh.Kind != subdivide.Compound {
 		return subdivide.PerRegion{}, requestf("n by region (LEFT,CHANNEL,RIGHT) needs a compound shape; a %s has one n", sh.Kind)
+	}
+	if len(v) == 3 && sh.FloodN > 0 {
+		return subdivide.PerRegion{}, requestf("the shape's floodn=%g and n LEFT,CHANNEL,RIGHT %g,%g,%g both give the floodplains' n: give floodn with one n (the channel's), or the three n alone",
+			sh.FloodN, v[0], v[1], v[2])
 	}
 	return regionN(v, true, false)
 }

@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -144,7 +145,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 			return r.sv, err
 		}
 	}
-	r.gaps()
+	r.gaps(opt)
 	return r.sv, nil
 }
 
@@ -325,16 +326,40 @@ func (r *sectionReader) banks() error {
 	return nil
 }
 
-// gaps warns of a gap between stations over MaxGapFraction of the width.
-func (r *sectionReader) gaps() {
+// gaps warns of a gap between stations over MaxGapFraction of the width,
+// except in a section written by the shape command (its comment says
+// BuiltPrefix), whose straight sides and level beds are exact.
+func (r *sectionReader) gaps(opt SectionOptions) {
+	if _, built := r.t.Meta[MetaBuilt]; built {
+		return
+	}
 	pts := r.sv.Section.Points
 	width := pts[len(pts)-1].Station - pts[0].Station
+	u := lengthUnit(r.sv.Units, opt.Coordinates.Feet)
 	for i := 1; i < len(pts); i++ {
 		if gap := pts[i].Station - pts[i-1].Station; gap > MaxGapFraction*width {
-			r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: gap of %g between stations %g and %g is over %.0f %% of the section width: check for missing points",
-				where(r.t, r.sv.Rows[i]), gap, pts[i-1].Station, pts[i].Station, MaxGapFraction*100))
+			r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: gap of %s %s between stations %s and %s is over %.0f %% of the section width: check for missing points",
+				where(r.t, r.sv.Rows[i]), roundLength(gap), u, roundLength(pts[i-1].Station), roundLength(pts[i].Station), MaxGapFraction*100))
 		}
 	}
+}
+
+// lengthUnit names the length unit of a survey whose headers say note
+// (feet asked for when they say nothing: --units us).
+func lengthUnit(note UnitNote, feet bool) string {
+	if note.Found {
+		return note.Units.Length()
+	}
+	if feet {
+		return rating.US.Length()
+	}
+	return rating.SI.Length()
+}
+
+// roundLength writes a length for a message, to the millimetre (or
+// thousandth of a foot), without trailing zeros.
+func roundLength(v float64) string {
+	return strconv.FormatFloat(math.Round(v*1000)/1000, 'f', -1, 64)
 }
 
 func where(t *Table, row int) string {

@@ -108,3 +108,37 @@ func TestParseErrorSheet(t *testing.T) {
 		t.Errorf("got %q, want %q", got, want)
 	}
 }
+
+// The station-gap warning writes its numbers to the millimetre with their
+// unit, and is not given for a section the shape command wrote (its
+// comment begins with BuiltPrefix). Gaps worked by hand: 20.000426 -
+// 12.999714 = 7.000712 m, written 7.001 between 13 and 20; the QA
+// rectangle in feet has one gap of 20 ft between stations 0 and 20.
+func TestGapWarning(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		in   string
+		opt  SectionOptions
+		want string // in the warnings; "" for no gap warning
+	}{
+		{"rounded, metres by default", "station,elevation,n\n0,3,0.03\n12.999713992767719,0,\n20.000426020459436,0,\n21,3,\n",
+			SectionOptions{}, "xs.csv:4: gap of 7.001 m between stations 13 and 20 is over 25 %"},
+		{"feet from the headers", "station (ft),elevation (ft),n\n0,10,0.03\n0,0,0.03\n20,0,0.03\n20,10,\n",
+			SectionOptions{}, "xs.csv:4: gap of 20 ft between stations 0 and 20"},
+		{"feet asked for", "station,elevation,n\n0,10,0.03\n0,0,0.03\n20,0,0.03\n20,10,\n",
+			SectionOptions{Coordinates: CoordinateOptions{Feet: true}}, "gap of 20 ft"},
+		{"built by shape", "# " + BuiltPrefix + "rectangle:width=5,height=3, lengths in m; invert at elevation 0.\nstation (m),elevation (m),n,mark\n0,3,0.04,\n0,0,0.04,\n5,0,0.04,\n5,3,,\n",
+			SectionOptions{}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			sv, err := ParseSection(strings.NewReader(tc.in), "xs.csv", tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			all := strings.Join(sv.Warnings, "\n")
+			if tc.want == "" && strings.Contains(all, "gap of") || !strings.Contains(all, tc.want) {
+				t.Errorf("warnings %q, want %q", all, tc.want)
+			}
+		})
+	}
+}

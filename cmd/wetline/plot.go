@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -67,7 +68,23 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	path := fs.Arg(0)
+	// The section, when given, is read first: with --units, else its own
+	// headers deciding, its units are the table's (whose headers then must
+	// agree); else the table's headers decide.
+	var p *survey.Prepared
+	by := "--units"
+	if f.section != "" {
+		if p, err = f.prepare(f.section); err != nil {
+			return err
+		}
+		if !u.Given && p.Survey.Units.Found {
+			u, by = survey.UnitChoice{Units: p.Units, Given: true}, "the headers of "+p.Source()
+		}
+	}
 	t, err := survey.ReadRatingCSV(path, "", u)
+	if errors.Is(err, survey.ErrUnitsDisagree) {
+		return fmt.Errorf("%w (%s units set by %s)", err, u.Units, by)
+	}
 	if err != nil {
 		return err
 	}
@@ -78,11 +95,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	warnings := append([]string(nil), t.Warnings...)
 	in := plotting.RatingFigures{Site: f.site, Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
-	if f.section != "" {
-		p, err := f.prepareIn(f.section, t.Units)
-		if err != nil {
-			return err
-		}
+	if p != nil {
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
 		in.Ground, in.Geometry = p.Ground, f.geometry()

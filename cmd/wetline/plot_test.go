@@ -126,3 +126,44 @@ func TestPlotErrors(t *testing.T) {
 		})
 	}
 }
+
+// plot --section: when neither --units nor the table's headers name the
+// units, the section's headers decide, as in other commands; a table
+// whose headers contradict them is refused naming its column. The table
+// is the QA rectangle 20 ft wide at n 0.03 and slope 0.001: at 2 ft,
+// Q = 1.486/0.03 * 40 * (40/24)^(2/3) * sqrt(0.001) = 88.08 ft3/s
+// (Manning's equation, Chow 1959, eq. 5-7, k = 1.486 in US units).
+func TestPlotSectionUnits(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	section := filepath.Join(dir, "ft.csv")
+	write := func(name, text string) string {
+		path := filepath.Join(dir, name)
+		if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	write("ft.csv", "# site: Owl Run near Hobb's Ford\nstation (ft),elevation (ft),n\n0,10,0.03\n0,0,0.03\n20,0,0.03\n20,10,\n")
+	plain := write("plain.csv", "stage,depth,discharge\n0,0,0\n2,2,88.08\n")
+	metres := write("metres.csv", "stage (m),depth (m),discharge (m3/s)\n0,0,0\n2,2,88.08\n")
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		code  int
+		words string // on standard error
+	}{
+		{"the section's headers decide", []string{plain, "--section", section}, 0, "plain-section.png"},
+		{"the table's headers disagree", []string{metres, "--section", section}, 1,
+			"metres.csv:1:1: stage (m): the header's unit is not the unit system asked for: the header says m (si units) but us units were asked for (us units set by the headers of " + section + ")"},
+		{"--units disagrees", []string{plain, "--section", section, "--units", "si"}, 1, "ft.csv:2:1: station (ft)"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out := t.TempDir()
+			_, errs, code := runCLI(t, append(append([]string{"plot"}, tc.args...), "-o", out)...)
+			if code != tc.code || !strings.Contains(errs, tc.words) {
+				t.Errorf("exit %d, want %d; stderr %q lacks %q", code, tc.code, errs, tc.words)
+			}
+		})
+	}
+}

@@ -231,8 +231,11 @@ func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Optio
 	if err != nil {
 		return err
 	}
+	if err := sectionUnits(fs, p).take(gs.Units, c.gaugings); err != nil {
+		return err
+	}
 	curve := rating.HydraulicCurve{Geometry: p.Geometry, Datum: c.datum, Options: opt}
-	g, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings)
+	g, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings, gauged.NRange{Min: survey.MinN, Max: survey.MaxN})
 	if err != nil {
 		return fmt.Errorf("%s: %w", c.gaugings, err)
 	}
@@ -240,6 +243,22 @@ func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Optio
 	p.Warnings = append(append(p.Warnings, gs.Warnings...), notes...)
 	p.Geometry = g
 	return nil
+}
+
+// sectionUnits is the unit system of a prepared section as other inputs
+// read with it must take it: set by --units, the survey's headers, or the
+// default (si) when neither said.
+func sectionUnits(fs *flagSet, p *survey.Prepared) *unitsDecided {
+	d := &unitsDecided{UnitChoice: survey.UnitChoice{Units: p.Units, Given: true}, by: "default, the survey's headers naming none"}
+	switch {
+	case fs.Changed("units"):
+		d.by = "--units"
+	case p.Survey.Units.Found:
+		d.by = "the headers of " + p.Source()
+	case p.Built:
+		d.by = "default, for the built shape"
+	}
+	return d
 }
 
 // connectedFlag keeps the flag --connected of earlier versions, whose

@@ -58,7 +58,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 		comments = append(comments, survey.MetaSite+": "+strings.Join(strings.Fields(*site), " "))
 	}
 	comments = append(comments,
-		fmt.Sprintf("Built section %s, lengths in %s; invert at elevation %g.", sh.String(), u.Length(), sh.Invert),
+		fmt.Sprintf("%s%s, lengths in %s; invert at elevation %g.", survey.BuiltPrefix, sh.String(), u.Length(), sh.Invert),
 		fmt.Sprintf("The sides stop at the nominal top, %g %s above the invert; edit the points freely.", sh.NominalHeight(), u.Length()),
 		"Caution: "+rating.Caution,
 	)

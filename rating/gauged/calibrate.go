@@ -23,6 +23,8 @@ type NPoint struct {
 	// conveyance at the gauging (Subsection, 0-based).
 	N          float64
 	Subsection int
+	// aboveEnds reports a gauge height above an end of the section.
+	aboveEnds bool
 }
 
 // Calibration is Manning's n back-calculated from gaugings with a known
@@ -50,6 +52,9 @@ type Calibration struct {
 	// Points holds each gauging's back-calculated n: one per gauging, in
 	// input order.
 	Points []NPoint
+	// Used is the number of gaugings the best factor was fitted on (those
+	// with a factor of their own and not excluded).
+	Used int
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 }
@@ -93,11 +98,15 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 	scaled := rating.ScaledN{Factor: 1, ChannelOnly: channelOnly}
 	var parts []calibrationPart
 	var errs []error
+	above, highest := 0, math.Inf(-1)
 	for _, g := range gs {
 		pt, part, warning, err := nPointOf(g, c, scaled, sel)
 		if err != nil {
 			errs = append(errs, err)
 			continue
+		}
+		if pt.aboveEnds {
+			above, highest = above+1, math.Max(highest, g.Stage)
 		}
 		if warning != "" {
 			cal.Warnings = append(cal.Warnings, warning)
@@ -110,6 +119,13 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 	if len(errs) > 0 {
 		return cal, errors.Join(errs...)
 	}
+	if above > 0 {
+		u := c.Options.Units
+		cal.Warnings = append(cal.Warnings, fmt.Sprintf(
+			"%d gauging(s) lie above an end of the section (gauge heights up to %.3f %s; the lower end is at gauge height %.3f %s): they were rated on vertical walls added there; check the datum (elevation = gauge height + datum)",
+			above, highest, u.Length(), c.Top(), u.Length()))
+	}
+	cal.Used = len(parts)
 	if len(parts) == 0 {
 		if len(cal.Warnings) > 0 {
 			return cal, fmt.Errorf("%w (check --datum: elevation = gauge height + datum), e.g. %s", ErrCalibrate, cal.Warnings[len(cal.Warnings)-1])
@@ -160,6 +176,7 @@ func nPointOf(g Gauging, c rating.HydraulicCurve, scaled rating.ScaledN, sel Sel
 		return pt, nil, "", fmt.Errorf("%s: gauge height %g: %w", g.label(), g.Stage, err)
 	}
 	pt.Rated = r.Discharge
+	pt.aboveEnds = r.ExtendedLeft > 0 || r.ExtendedRight > 0
 	var qs, qo, kmax float64
 	for i, s := range r.Subs {
 		if scaled.Scales(s.Region) {

@@ -1,30 +1,63 @@
 package gauged
 
 import (
+	"errors"
 	"fmt"
-	"strconv"
+	"math"
 
 	"wetline/rating"
 )
 
+// ErrImplausibleN is the cause of a calibration whose best factor makes a
+// scaled n implausible: the gaugings, the slope or the datum are then
+// wrong for the section rather than its n.
+var ErrImplausibleN = errors.New("calibrated n outside the plausible range")
+
+// NRange bounds a plausible Manning's n (dimensionless).
+type NRange struct{ Min, Max float64 }
+
 // CalibratedGeometry back-calculates n on gaugings (Calibrate) and returns
 // the section of c with every n, or only the channel's, multiplied by the
 // best factor, with the calibration's warnings and a sentence stating it
-// (the number of gaugings, source, datum and factor) for every report of
-// the calibrated section. source names where the gaugings came from.
-func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, source string) (rating.ScaledN, []string, error) {
+// (the number of gaugings used, source, datum, factor and standard error,
+// "not estimated" from one gauging) for every report of the calibrated
+// section. source names where the gaugings came from.
+//
+// Errors: Calibrate's; ErrImplausibleN when a scaled n times the factor
+// leaves plausible (naming the factor and the n it gives).
+func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, source string, plausible NRange) (rating.ScaledN, []string, error) {
 	cal, err := Calibrate(gs, c, channelOnly)
 	if err != nil {
 		return rating.ScaledN{}, nil, err
+	}
+	scaled := rating.ScaledN{Geometry: c.Geometry, Factor: cal.Factor, ChannelOnly: channelOnly}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, s := range scaled.Subsections() {
+		if scaled.Scales(s.Region) && s.N > 0 {
+			lo, hi = math.Min(lo, s.N), math.Max(hi, s.N)
+		}
+	}
+	if lo < plausible.Min || hi > plausible.Max {
+		return rating.ScaledN{}, nil, fmt.Errorf(
+			"%w: the best factor on n, %.4g from %d gauging(s), makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
+			ErrImplausibleN, cal.Factor, cal.Used, lo, hi, plausible.Min, plausible.Max)
 	}
 	which := "every n"
 	if channelOnly {
 		which = "the channel's n"
 	}
 	u := c.Options.Units
+	se := "not estimated from one gauging"
+	if !math.IsNaN(cal.StandardErrorPercent) {
+		se = fmt.Sprintf("%.1f %%", cal.StandardErrorPercent)
+	}
+	plural := "s"
+	if cal.Used == 1 {
+		plural = ""
+	}
 	notes := append([]string(nil), cal.Warnings...)
 	notes = append(notes, fmt.Sprintf(
-		"n calibrated on %d gaugings in %s (gauge datum: elevation = gauge height + %s %s): %s multiplied by %.4f; standard error against them %.1f %%",
-		len(gs), source, strconv.FormatFloat(c.Datum, 'g', 6, 64), u.Length(), which, cal.Factor, cal.StandardErrorPercent))
-	return rating.ScaledN{Geometry: c.Geometry, Factor: cal.Factor, ChannelOnly: channelOnly}, notes, nil
+		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s %s): %s multiplied by %.4f; standard error against them %s",
+		cal.Used, plural, source, rating.DatumTerm(c.Datum), u.Length(), which, cal.Factor, se))
+	return scaled, notes, nil
 }

@@ -181,7 +181,8 @@ type Options struct {
 	Request survey.SectionRequest
 	// Stages asks for the stages of every table.
 	Stages rating.StageSpec
-	// Rating holds the slope and wetting options (its Units is Request's).
+	// Rating holds the slope and wetting options (its Units is replaced by
+	// each section's, resolved as Prepare resolves it).
 	Rating rating.Options
 	// Workers is the number of sections rated at once (default GOMAXPROCS).
 	Workers int
@@ -199,7 +200,29 @@ type Result struct {
 	// Table is the rating table (no rows when the job failed or was
 	// skipped).
 	Table rating.Table
+	// units is what the section's headers say of its unit system and the
+	// system it was rated in (nil when it was not read).
+	units *sectionUnits
 }
+
+// sectionUnits is the unit system a section was read in, and what its
+// headers said of it.
+type sectionUnits struct {
+	Units rating.Units
+	Note  survey.UnitNote
+}
+
+// describe says where a section's unit system came from, for messages.
+func (s sectionUnits) describe(source string) string {
+	if !s.Note.Found {
+		return fmt.Sprintf("%s: its headers name no unit, so %s units", source, s.Units)
+	}
+	return fmt.Sprintf("%s: column %q says %s (%s units)", s.Note.At.Position(), s.Note.At.Name, s.Note.Text, s.Units)
+}
+
+// ErrMixedSystems is the cause of a section of a batch whose unit system
+// is not that of the first section rated: one batch writes one system.
+var ErrMixedSystems = errors.New("the sections of one batch must be in one unit system: rate the others in a run of their own")
 
 // SkippedNote says why a section was skipped: its table has a header and
 // no rows, as the blank cross-section sheets of a field workbook have.
@@ -229,15 +252,16 @@ func Rate(j Job, opt Options) Result {
 		}
 		return fail(err)
 	}
+	units := &sectionUnits{Units: p.Units, Note: p.Survey.Units}
 	if opt.ReadOnly {
-		return Result{Entry: en}
+		return Result{Entry: en, units: units}
 	}
 	stages, err := opt.Stages.Stages(p.Geometry)
 	if err != nil {
 		return fail(err)
 	}
 	ro := opt.Rating
-	ro.Units = req.Units
+	ro.Units = p.Units // as a single run: --units, which the headers must match, else the headers
 	t, err := rating.Compute(p.Geometry, stages, ro)
 	if err != nil {
 		return fail(err)
@@ -251,7 +275,35 @@ func Rate(j Job, opt Options) Result {
 			en.BankfullDischarge = bt.Rows[0].Discharge
 		}
 	}
-	return Result{Entry: en, Table: t}
+	return Result{Entry: en, Table: t, units: units}
+}
+
+// unitGuard holds a batch to the unit system of its first section rated
+// (in input order), refusing a later section in another system.
+type unitGuard struct {
+	first *sectionUnits
+	from  string
+}
+
+// check returns r, or r failed with ErrMixedSystems when its unit system
+// differs from the first rated section's.
+func (g *unitGuard) check(r Result) Result {
+	if r.units == nil || r.Entry.Err != "" || r.Entry.Skipped != "" {
+		return r
+	}
+	if g.first == nil {
+		g.first, g.from = r.units, r.Entry.Source
+		return r
+	}
+	if r.units.Units == g.first.Units {
+		return r
+	}
+	nan := math.NaN()
+	en := results.IndexEntry{Section: r.Entry.Section, Source: r.Entry.Source,
+		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
+	en.Err = fmt.Sprintf("%s, but the first section rated in this batch is in %s units (%s): %v",
+		r.units.describe(r.Entry.Source), g.first.Units, g.first.describe(g.from), ErrMixedSystems)
+	return Result{Entry: en}
 }
 
 // headerOnly reports whether a survey that failed with err has a header
@@ -266,17 +318,21 @@ func headerOnly(j Job, err error) bool {
 }
 
 // Run rates the jobs on a pool of workers and calls emit for every job in
-// input order, from the calling goroutine. At most a few results per
-// worker wait to be emitted, so memory stays bounded however long the
-// batch. An error from emit, or the context ending, stops the batch.
+// input order, from the calling goroutine. Every section is rated in the
+// unit system a single run would use (the one asked for, which its
+// headers must match, else its headers'); one whose system differs from
+// that of the first section rated fails with ErrMixedSystems. At most a
+// few results per worker wait to be emitted, so memory stays bounded
+// however long the batch. An error from emit, or the context ending, stops the batch.
 func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result) error) error {
 	workers := opt.Workers
 	if workers < 1 {
 		workers = runtime.GOMAXPROCS(0)
 	}
+	var units unitGuard
 	return orderedPool(ctx, len(jobs), workers, func(i int) Result { return Rate(jobs[i], opt) },
 		func(i int, r Result) error {
-			if err := emit(i, r); err != nil {
+			if err := emit(i, units.check(r)); err != nil {
 				return err
 			}
 			if opt.Progress != nil {

@@ -572,3 +572,100 @@ func TestRunOrderAndStop(t *testing.T) {
 		t.Errorf("after emit failed: %v, %d emitted", err, n)
 	}
 }
+
+// feetBox is the QA survey of a section in feet: a rectangle 20 ft wide
+// with walls 10 ft high, n 0.03, its units in the headers.
+const feetBox = `# site: Owl Run near Hobb's Ford
+station (ft),elevation (ft),n
+0,10,0.03
+0,0,0.03
+20,0,0.03
+20,10,
+`
+
+// metreBox is the same rectangle with its headers in metres.
+var metreBox = strings.ReplaceAll(feetBox, "(ft)", "(m)")
+
+// Every section of a batch is rated in the units its headers name, as a
+// single run rates it; a section in another system than the first one
+// rated fails, naming its column, and --units the headers contradict
+// fails naming the column.
+//
+// Hand value (Manning's equation, Chow 1959, eq. 5-7, US customary
+// k = 1.486): stage 2 ft in the 20 ft rectangle, A = 40 ft2,
+// P = 20 + 2*2 = 24 ft, R = 40/24 = 1.6667 ft, R^(2/3) = 1.40572;
+// Q = 1.486/0.03 * 40 * 1.40572 * sqrt(0.001) = 49.5333 * 40 * 1.40572 *
+// 0.0316228 = 88.08 ft3/s (with k = 1, as the defect did: 59.27).
+func TestBatchHeaderUnits(t *testing.T) {
+	dir := t.TempDir()
+	writeFile(t, filepath.Join(dir, "ft.csv"), feetBox)
+	writeFile(t, filepath.Join(dir, "ft2.csv"), feetBox)
+	writeFile(t, filepath.Join(dir, "m.csv"), metreBox)
+	writeFile(t, filepath.Join(dir, "plain.csv"), strings.ReplaceAll(feetBox, " (ft)", ""))
+	book := filepath.Join(dir, "field.xlsx")
+	sheet := feetBox[strings.Index(feetBox, "\n")+1:] // without the site comment
+	writeBook(t, book, [2]string{"XS-1", sheet}, [2]string{"XS-2", sheet})
+	const wantQ = 88.08  // ft3/s, the hand value above
+	const closeQ = 0.005 // ft3/s: the hand value's last digit
+	type want struct {
+		units rating.Units // of a rated section
+		err   string       // in the failed section's error, "" when rated
+	}
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		units string // --units, "" when not given
+		want  []want
+	}{
+		{"two files in feet", []string{"ft.csv", "ft2.csv"}, "", []want{{rating.US, ""}, {rating.US, ""}}},
+		{"workbook in feet", []string{"field.xlsx"}, "", []want{{rating.US, ""}, {rating.US, ""}}},
+		{"--units us agrees", []string{"ft.csv", "ft2.csv"}, "us", []want{{rating.US, ""}, {rating.US, ""}}},
+		{"feet then metres", []string{"ft.csv", "m.csv"}, "", []want{{rating.US, ""}, {0, "m.csv:2:1: column \"station (m)\" says m (si units), but the first section rated in this batch is in us units (" + filepath.Join(dir, "ft.csv") + ":2:1: column \"station (ft)\" says ft (us units))"}}},
+		{"feet then no units", []string{"ft.csv", "plain.csv"}, "", []want{{rating.US, ""}, {0, "plain.csv: its headers name no unit, so si units, but the first section rated in this batch is in us units"}}},
+		{"--units si contradicted", []string{"ft.csv"}, "si", []want{{0, "ft.csv:2:1: station (ft): the header's unit is not the unit system asked for"}}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var args []string
+			for _, a := range tc.args {
+				args = append(args, filepath.Join(dir, a))
+			}
+			jobs, _, err := batch.List(args, "", "csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			opt := batch.Options{Stages: rating.StageSpec{List: []float64{2}}, Rating: rating.Options{Slope: 0.001}, Workers: 2}
+			if tc.units != "" {
+				u, err := rating.ParseUnits(tc.units)
+				if err != nil {
+					t.Fatal(err)
+				}
+				opt.Request.Units, opt.Request.UnitsGiven = u, true
+			}
+			var got []batch.Result
+			if err := batch.Run(context.Background(), jobs, opt, func(i int, r batch.Result) error {
+				got = append(got, r)
+				return nil
+			}); err != nil {
+				t.Fatal(err)
+			}
+			if len(got) != len(tc.want) {
+				t.Fatalf("%d results, want %d", len(got), len(tc.want))
+			}
+			for i, w := range tc.want {
+				r := got[i]
+				if w.err != "" {
+					if !strings.Contains(r.Entry.Err, w.err) || len(r.Table.Rows) != 0 {
+						t.Errorf("section %d: error %q (%d rows), want one holding %q", i+1, r.Entry.Err, len(r.Table.Rows), w.err)
+					}
+					continue
+				}
+				if r.Entry.Err != "" || len(r.Table.Rows) != 1 {
+					t.Fatalf("section %d: error %q, %d rows", i+1, r.Entry.Err, len(r.Table.Rows))
+				}
+				if q := r.Table.Rows[0].Discharge; r.Table.Units != w.units || math.Abs(q-wantQ) > closeQ {
+					t.Errorf("section %d: %g in %s units, want %g in %s", i+1, q, r.Table.Units, wantQ, w.units)
+				}
+			}
+		})
+	}
+}

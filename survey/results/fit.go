@@ -509,7 +509,7 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil:
-		p("Gauge datum: elevation = gauge height + %s %s (--datum); hydraulic rating at slope %g\n", FormatFloat(r.Datum), L, r.Slope)
+		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating at slope %g\n", rating.DatumTerm(r.Datum), L, r.Slope)
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:

@@ -129,7 +129,7 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	add("units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), "")
 	switch {
 	case r.Hydraulic != nil:
-		add("gauge datum", fmt.Sprintf("elevation = gauge height + %s", FormatFloat(r.Datum)), L)
+		add("gauge datum", "elevation = gauge height "+rating.DatumTerm(r.Datum), L)
 		add("friction slope of the hydraulic rating", num("0.######", r.Slope), L+"/"+L)
 	case r.HydraulicTable != nil:
 		add("gauge datum", "stages are gauge heights; hydraulic rating from the "+r.HydraulicSource, "")

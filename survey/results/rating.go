@@ -230,7 +230,7 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 		fmt.Fprintf(bw, "Site: %s\n", s)
 	}
 	if t.GaugeHeights {
-		fmt.Fprintf(bw, "Stages are gauge heights: elevation = gauge height + %s %s\n", FormatFloat(t.Datum), u.Length())
+		fmt.Fprintf(bw, "Stages are gauge heights: elevation = gauge height %s %s\n", rating.DatumTerm(t.Datum), u.Length())
 	}
 	bw.WriteByte('\n')
 	writeMainColumnsText(bw, t)

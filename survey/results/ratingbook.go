@@ -425,7 +425,7 @@ func newBook(title string) *workbook.Book {
 // stagesWords says what a table's stages are.
 func stagesWords(t rating.Table) string {
 	if t.GaugeHeights {
-		return fmt.Sprintf("gauge heights: elevation = gauge height + %s %s", FormatFloat(t.Datum), t.Units.Length())
+		return fmt.Sprintf("gauge heights: elevation = gauge height %s %s", rating.DatumTerm(t.Datum), t.Units.Length())
 	}
 	return "elevations in the survey's datum"
 }

@@ -61,7 +61,7 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
 	switch {
 	case r.Hydraulic != nil:
-		fmt.Fprintf(bw, "; gauge datum: elevation = gauge height + %s %s", FormatFloat(r.Datum), r.Units.Length())
+		fmt.Fprintf(bw, "; gauge datum: elevation = gauge height %s %s", rating.DatumTerm(r.Datum), r.Units.Length())
 	case r.HydraulicTable != nil:
 		fmt.Fprintf(bw, "; stages are gauge heights, hydraulic rating from the %s", r.HydraulicSource)
 	default:
