@@ -674,3 +674,118 @@ func TestBackwaterHalfwayStart(t *testing.T) {
 			p.Discharge, two, s.ID, math.Abs(s.WaterSurface-s.HalfwayWaterSurface), rd.Spread, rd.Unsettled)
 	}
 }
+
+// qaCompound returns a two-section compound reach (invented): a channel
+// 10 m wide and 2 m deep (n 0.03) between floodplains 30 and 40 m wide
+// rising 0.1 m to their outer ends (n 0.06 and 0.08) and walls to 4 m
+// above the channel floor, the downstream section (B, 200 m on) 0.2 m
+// lower; A has flow lengths 100, 200 and 300 m. At the floodplains' level
+// the top width jumps from 10 to about 80 m, so that a compound section of
+// this kind has several critical stages (Blalock and Sturm 1981) and a
+// supercritical band of stages just above the floodplains.
+func qaCompound(t *testing.T) []Section {
+	t.Helper()
+	var secs []Section
+	for i, id := range []string{"A", "B"} {
+		z := 100 - 0.2*float64(i)
+		s := subdivide.Section{Name: id, HasBanks: true, LeftBank: 40, RightBank: 50,
+			N: []float64{0.06, 0.06, 0.03, 0.03, 0.03, 0.08, 0.08}}
+		for _, p := range [][2]float64{{0, 6}, {10, 2.1}, {40, 2}, {40, 0}, {50, 0}, {50, 2}, {90, 2.1}, {100, 6}} {
+			s.Points = append(s.Points, subdivide.Point{Station: p[0], Elevation: z + p[1]})
+		}
+		g, err := subdivide.Compile(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: id, Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	secs[0].FlowLengths = subdivide.PerRegion{Left: 100, Channel: 200, Right: 300}
+	return secs
+}
+
+// froudeAt returns the Froude number of discharge q at stage h in g,
+// from rating.Hydraulics: Fr = √(α·Q²·T/(g·A³)), proportional to Q, so
+// the row's value at slope 1 is scaled by q over the row's discharge.
+func froudeAt(t *testing.T, g subdivide.Geometry, h, q float64) float64 {
+	t.Helper()
+	r := hydraulicsAt(t, g, h, subdivide.Options{})
+	// The row holds the Froude number at slope 1; scale it to discharge q.
+	return r.Froude * q / r.Discharge
+}
+
+// Where the stage half-way between the two starts is supercritical (in the
+// band above the floodplains of a compound section), the third start is
+// looked for nearer the first: s1 + (s2 − s1)/2^k, k = 1, 2, ..., the
+// first whose Froude number, recomputed here from rating.Hydraulics, is
+// at most 1. Boundary stage 102.8 m at B; at Q = 60 m3/s the second
+// start is critical depth in the channel, about 101.34 m, and half-way,
+// about 102.07 m, lies just above the floodplains (102.0 to 102.1 m at
+// B), where it is supercritical. Where s1 lies just above the highest
+// critical stage, every trial stage down towards s2 is supercritical: the
+// third start is s1 itself and the profile and the report say so.
+func TestBackwaterHalfwaySupercritical(t *testing.T) {
+	secs := qaCompound(t)
+	gB := secs[1].Geometry
+	res, err := ComputeBackwater(secs, []float64{10, 60, 150}, Boundary{Kind: KnownStage, Stage: 102.8}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	moved := false
+	for _, p := range res.Profiles {
+		s1, s2 := p.Start, p.SecondStart
+		want := math.NaN()
+		for k, d := 1, (s2-s1)/2; k <= HalfwayTries; k, d = k+1, d/2 {
+			if froudeAt(t, gB, s1+d, p.Discharge) <= 1 {
+				want = s1 + d
+				break
+			}
+			moved = moved || p.Discharge == 60
+		}
+		if math.Abs(p.HalfwayStart-want) > 1e-12 {
+			t.Errorf("Q %g: third start %.6f, want %.6f (starts %.6f, %.6f)", p.Discharge, p.HalfwayStart, want, s1, s2)
+		}
+		if p.HalfwayStart == s1 {
+			t.Errorf("Q %g: third start is the first start %.6f", p.Discharge, s1)
+		}
+		if len(p.Warnings) > 0 {
+			t.Errorf("Q %g: warnings %q", p.Discharge, p.Warnings)
+		}
+	}
+	if !moved {
+		t.Error("at Q 60 half-way was not supercritical: the case does not test the search")
+	}
+
+	// No subcritical stage between: the first start just above the
+	// highest critical stage at B, the second just below the one beneath
+	// it (where the flow falls supercritical as the floodplains wet), so
+	// that every trial stage lies in the supercritical band between.
+	const q = 60
+	crit, err := rating.CriticalStages(gB, q, rating.Options{Slope: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(crit) != 3 {
+		t.Fatalf("critical stages %v: want three", crit)
+	}
+	top, below := crit[2].Stage+1e-4, crit[1].Stage-1e-4
+	for _, h := range []float64{top, below} {
+		if froudeAt(t, gB, h, q) > 1 {
+			t.Fatalf("stage %.6f supercritical (critical stages %v)", h, crit)
+		}
+	}
+	second := Boundary{Kind: KnownStage, Stage: below}
+	res, err = ComputeBackwater(secs, []float64{q}, Boundary{Kind: KnownStage, Stage: top}, BackwaterOptions{Second: &second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := res.Profiles[0]
+	if p.HalfwayStart != p.Start || p.Start != top {
+		t.Errorf("third start %.6f, first %.6f, want both %.6f", p.HalfwayStart, p.Start, top)
+	}
+	if len(p.Warnings) != 1 || !strings.Contains(p.Warnings[0], "third profile starts at the first start") {
+		t.Errorf("profile warnings %q: want one on the third start", p.Warnings)
+	}
+	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at 1 of 1 discharges no stage tried between the two starts is subcritical") {
+		t.Errorf("report warnings %q: want the third start named", res.Warnings)
+	}
+}

@@ -203,7 +203,12 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	if err != nil {
 		return p, fmt.Errorf("second profile: %w", err)
 	}
-	p.HalfwayStart = r.halfway(s1, s2, q)
+	var between bool
+	if p.HalfwayStart, between = r.halfway(s1, s2, q); !between {
+		p.Warnings = append(p.Warnings, fmt.Sprintf(
+			"every stage tried between the start %.3f %s and the second start %.3f %s at %s is supercritical: "+
+				"the third profile starts at the first start and checks nothing", s1, r.u.Length(), s2, r.u.Length(), r.secs[n-1].ID))
+	}
 	rows3, err := r.march(2, p.HalfwayStart, false, q)
 	if err != nil {
 		return p, fmt.Errorf("half-way profile: %w", err)
@@ -223,17 +228,30 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	return p, nil
 }
 
-// halfway returns the stage half-way between the starts s1 and s2 of
-// discharge q, or s1 where that stage is supercritical (a compound
-// section with several critical stages), so that the half-way profile is
-// always a subcritical one.
-func (r *bwRun) halfway(s1, s2, q float64) float64 {
-	h := (s1 + s2) / 2
+// HalfwayTries is how many times the distance of the third start from
+// the first is halved, from half-way between the two starts, while the
+// stage there is supercritical.
+const HalfwayTries = 6
+
+// halfway returns the third start of discharge q between the starts s1
+// and s2: half-way between them where that stage is subcritical, else the
+// first subcritical stage of s1 + (s2 − s1)/2^k, k = 2 … HalfwayTries (a
+// compound section can have several critical stages, so that half-way may
+// lie in a supercritical band while stages nearer s1 do not). Where none
+// of them is subcritical it returns s1 and false, so that the third
+// profile is always a subcritical one.
+func (r *bwRun) halfway(s1, s2, q float64) (float64, bool) {
+	m := r.models[len(r.secs)-1]
 	var st bwState
-	if err := r.models[len(r.secs)-1].state(h, &st); err != nil || !st.wet() || st.froude(q, r.u) > 1 {
-		return s1
+	d := (s2 - s1) / 2
+	for range HalfwayTries {
+		h := s1 + d
+		if err := m.state(h, &st); err == nil && st.wet() && !(st.froude(q, r.u) > 1) {
+			return h, true
+		}
+		d /= 2
 	}
-	return h
+	return s1, false
 }
 
 // section fills the reported values of section j; second and halfway are
@@ -599,7 +617,7 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 			out = append(out, fmt.Sprintf("section %s: the water stands in up to %d separate pools; all are counted", s.ID, r.pools[j]))
 		}
 	}
-	crit, starts, jumps, worst := 0, 0, 0, 0.0
+	crit, starts, third, jumps, worst := 0, 0, 0, 0, 0.0
 	for _, p := range ps {
 		for _, s := range p.Sections {
 			if s.Jump {
@@ -616,6 +634,9 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 		if p.StartCritical && r.b.Kind != CriticalDepth {
 			starts++
 		}
+		if p.HalfwayStart == p.Start && p.SecondStart != p.Start {
+			third++
+		}
 	}
 	if crit > 0 {
 		out = append(out, fmt.Sprintf("at %d of %d discharges the profile passes through critical depth (see the sections marked critical): "+
@@ -628,6 +649,10 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 	}
 	if starts > 0 {
 		out = append(out, fmt.Sprintf("at %d of %d discharges the boundary stage is below critical depth: those profiles start at critical depth", starts, len(ps)))
+	}
+	if third > 0 {
+		out = append(out, fmt.Sprintf("at %d of %d discharges no stage tried between the two starts is subcritical: "+
+			"the third profile starts at the first start there and does not check it (see the profiles' notes)", third, len(ps)))
 	}
 	if w := unsettledWarning(rt, u); w != "" {
 		out = append(out, w)
