@@ -234,3 +234,24 @@ func TestSlopeAreaPlots(t *testing.T) {
 		t.Error("figures folder made for a failed run")
 	}
 }
+
+// Flow lengths in the reach table are not used by the slope-area method,
+// which takes the distance between sections (Dalrymple and Benson 1967,
+// TWRI 3-A2): the report warns, naming the columns, instead of ignoring
+// them silently.
+func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\n"+
+		"A,a.csv,0,11.2,,90,100,110\nB,b.csv,100,11,,,,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"))
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if want := "the flow lengths in left_length, channel_length, right_length (section A) are not used: " +
+		"the slope-area method takes the distance between sections"; !strings.Contains(out, want) {
+		t.Errorf("report lacks %q:\n%s", want, out)
+	}
+}
