@@ -201,6 +201,9 @@ func parseBoundary(spec string) (b reach.Boundary, file string, err error) {
 		if err != nil {
 			return b, "", err
 		}
+		if math.Abs(h) > survey.MaxElevation {
+			return b, "", usagef("backwater: --boundary stage:%s is beyond ±%g: not a plausible stage", strings.TrimSpace(arg), survey.MaxElevation)
+		}
 		return reach.Boundary{Kind: reach.KnownStage, Stage: h}, "", nil
 	case "rating":
 		if strings.TrimSpace(arg) == "" {

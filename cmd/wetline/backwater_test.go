@@ -205,6 +205,8 @@ func TestBackwaterRefusals(t *testing.T) {
 		{"xlsx to stdout", "", []string{"--discharges", "5", "--boundary", "critical", "--format", "xlsx"}, 2, "needs -o"},
 		{"verify without marks", "", []string{"--discharges", "5", "--boundary", "critical", "--verify", "20"}, 1, "no section of the reach has a high-water mark"},
 		{"missing rating file", "", []string{"--discharges", "5", "--boundary", "rating:nowhere.csv"}, 1, "nowhere.csv"},
+		// A stage is held to ±1e5 as every stage flag is (survey.MaxElevation).
+		{"implausible stage", "", []string{"--discharges", "5", "--boundary", "stage:1e9"}, 2, "--boundary stage:1e9 is beyond ±100000: not a plausible stage"},
 		{"stage below the bed", "", []string{"--discharges", "5", "--boundary", "stage:99"}, 1, "not above its lowest ground"},
 		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
 			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": the section is at a structure"},

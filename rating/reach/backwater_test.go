@@ -2,6 +2,7 @@ package reach
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -617,7 +618,7 @@ func TestBackwaterOptions(t *testing.T) {
 		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
 	}
 	all := strings.Join(res.Warnings, "\n")
-	for _, want := range []string{"channel flow length 260.0 m", "above an end of the section"} {
+	for _, want := range []string{"channel flow length 260.0 m", "above the left end of the section: a vertical wall up to"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("no warning with %q in %q", want, res.Warnings)
 		}
@@ -787,5 +788,46 @@ func TestBackwaterHalfwaySupercritical(t *testing.T) {
 	}
 	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at 1 of 1 discharges no stage tried between the two starts is subcritical") {
 		t.Errorf("report warnings %q: want the third start named", res.Warnings)
+	}
+}
+
+// A stage above the ends of a section is computed with vertical walls
+// added there, and the warning says how high they stand, as a rating
+// table's does (rating.ExtensionWarnings). Three rectangular sections 10 m
+// wide with ends 6 m above the bed (z = 100, 99.8, 99.6), boundary stage
+// 8 m above the last bed, 107.6 m: at P2 the walls stand 107.6 − 105.6 =
+// 2.000 m on both sides (by hand). Upstream the stages are higher still,
+// each wall the section's highest stage less its end elevation.
+func TestBackwaterWallHeights(t *testing.T) {
+	var secs []Section
+	for i := range 3 {
+		z := 100 - 0.2*float64(i)
+		g, err := subdivide.Compile(subdivide.Section{Name: fmt.Sprintf("P%d", i),
+			Points: saPoints(0, z+6, 0, z, 10, z, 10, z+6), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: fmt.Sprintf("P%d", i), Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	res, err := ComputeBackwater(secs, []float64{50, 100}, Boundary{Kind: KnownStage, Stage: 107.6}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	all := strings.Join(res.Warnings, "\n")
+	for _, want := range []string{
+		"section P2: stages up to 107.600 m are above the left end of the section: a vertical wall up to 2.000 m high was added there",
+		"section P2: stages up to 107.600 m are above the right end of the section: a vertical wall up to 2.000 m high was added there",
+	} {
+		if !strings.Contains(all, want) {
+			t.Errorf("warnings lack %q:\n%s", want, all)
+		}
+	}
+	for j := range 2 {
+		h := math.Max(res.Profiles[0].Sections[j].WaterSurface, res.Profiles[1].Sections[j].WaterSurface)
+		want := fmt.Sprintf("section P%d: stages up to %.3f m are above the left end of the section: a vertical wall up to %.3f m high was added there",
+			j, h, h-(106-0.2*float64(j)))
+		if !strings.Contains(all, want) {
+			t.Errorf("warnings lack %q:\n%s", want, all)
+		}
 	}
 }

@@ -610,8 +610,16 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 	u := r.u
 	for j, s := range r.secs {
 		if h := r.walls[j]; finite(h) {
-			out = append(out, fmt.Sprintf("section %s: stages up to %.3f %s are above an end of the section: a vertical wall was added there",
-				s.ID, h, u.Length()))
+			// The heights of the walls at the highest stage, as a rating
+			// table words them.
+			w, err := s.Geometry.At(h, r.models[j].gopt)
+			ws := rating.ExtensionWarnings(w.ExtendedLeft, w.ExtendedRight, h, u)
+			if err != nil || len(ws) == 0 {
+				ws = []string{fmt.Sprintf("stages up to %.3f %s are above an end of the section: a vertical wall was added there", h, u.Length())}
+			}
+			for _, w := range ws {
+				out = append(out, "section "+s.ID+": "+w)
+			}
 		}
 		if r.pools[j] > 1 && r.models[j].gopt.AllPools {
 			out = append(out, fmt.Sprintf("section %s: the water stands in up to %d separate pools; all are counted", s.ID, r.pools[j]))
