@@ -148,6 +148,20 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 	if !strings.Contains(out, "weaker method") || !strings.Contains(out, "slope-conveyance") {
 		t.Errorf("report does not label the weaker method:\n%s", out)
 	}
+	// The Monte Carlo flags (on by default) do not apply to one section:
+	// said, not silent.
+	if !strings.Contains(out, "no uncertainty band: the Monte Carlo analysis") {
+		t.Errorf("report does not say the uncertainty flags do not apply:\n%s", out)
+	}
+	// No profile of a reach of one section, only the section.
+	plots := filepath.Join(dir, "figs")
+	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001", "--plots", plots,
+		"-o", filepath.Join(dir, "r.txt")); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if names, _ := filepath.Glob(filepath.Join(plots, "*.png")); len(names) != 1 || filepath.Base(names[0]) != "reach-sections.png" {
+		t.Errorf("figures %q: want reach-sections.png only", names)
+	}
 	// Triangle of depth 1 m and side slopes 5:1: A = 5 m², P = 2√26 m,
 	// Q = A·R^(2/3)·√S/n (Chow 1959, eq. 6-9) = 2.458 m³/s (by hand).
 	if !strings.Contains(out, "Peak discharge  2.458 m3/s") {
