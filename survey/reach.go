@@ -419,6 +419,23 @@ func (r *Reach) Inputs() []string {
 	return out
 }
 
+// ResolveUnits returns the unit system of the reach: u when given (which
+// the reach table's headers must not contradict, UnitNote.Resolve), else
+// what the reach table's headers say, else what the first survey whose
+// headers name a unit says, else u. ReachSections then holds every survey
+// to it.
+func (r *Reach) ResolveUnits(u rating.Units, given bool) (rating.Units, error) {
+	if given || r.Units.Found {
+		return r.Units.Resolve(u, given)
+	}
+	for _, sv := range r.Surveys {
+		if sv.Units.Found {
+			return sv.Units.Units, nil
+		}
+	}
+	return u, nil
+}
+
 // ReachSections compiles each section's survey for the reach methods in
 // unit system u (a survey whose headers say otherwise is an error), with
 // its id, distance, marks (NaN where blank), flow lengths (zero where

@@ -283,7 +283,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	if err != nil {
 		return rep, err
 	}
-	if opt.Backwater.Units, err = rt.Units.Resolve(opt.Backwater.Units, unitsGiven); err != nil {
+	if opt.Backwater.Units, err = rt.ResolveUnits(opt.Backwater.Units, unitsGiven); err != nil {
 		return rep, err
 	}
 	if err := rt.OpenChannel(); err != nil {

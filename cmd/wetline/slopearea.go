@@ -162,7 +162,7 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	if err != nil {
 		return reach.Report{}, err
 	}
-	if opt.SlopeArea.Units, err = rt.Units.Resolve(opt.SlopeArea.Units, unitsGiven); err != nil {
+	if opt.SlopeArea.Units, err = rt.ResolveUnits(opt.SlopeArea.Units, unitsGiven); err != nil {
 		return reach.Report{}, err
 	}
 	secs, err := rt.ReachSections(opt.SlopeArea.Units)

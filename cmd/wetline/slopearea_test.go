@@ -269,3 +269,25 @@ func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
 		t.Errorf("report lacks %q:\n%s", want, out)
 	}
 }
+
+// A reach table without unit headers, its surveys in ft and no --units:
+// the surveys' headers decide (US units), as a single survey's do for
+// rate, instead of "the header says ft (us units) but si units were
+// asked for" when nothing was asked for.
+func TestSlopeAreaUnitsFromSurveys(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11.2,\nB,b.csv,300,11,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station (ft),elevation (ft),n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station (ft),elevation (ft),n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--draws", "0")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "US units (lengths ft, discharge ft3/s)") {
+		t.Errorf("report not in US units:\n%s", out)
+	}
+	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--units", "si"); code != 1 || !strings.Contains(errs, "si units were asked for") {
+		t.Errorf("--units si with surveys in ft: exit %d: %s", code, errs)
+	}
+}
