@@ -187,8 +187,8 @@ func parseBoundary(spec string) (b reach.Boundary, file string, err error) {
 		if !(s > 0) {
 			return b, "", bad("the slope must be positive")
 		}
-		if err := checkSlope("backwater", s); err != nil {
-			return b, "", err
+		if s > maxSlope {
+			return b, "", usageError{err: fmt.Errorf("backwater: --boundary normal:%s %w", strings.TrimSpace(arg), ErrImplausibleSlope)}
 		}
 		return reach.Boundary{Kind: reach.NormalDepth, Slope: s}, "", nil
 	case "critical":

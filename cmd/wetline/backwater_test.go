@@ -193,7 +193,8 @@ func TestBackwaterRefusals(t *testing.T) {
 		{"no boundary", "", []string{"--discharges", "5"}, 2, "--boundary is required"},
 		{"bad boundary", "", []string{"--discharges", "5", "--boundary", "tide:3"}, 2, "unknown boundary"},
 		{"boundary without number", "", []string{"--discharges", "5", "--boundary", "normal:steep"}, 2, "not a finite number"},
-		{"implausible slope", "", []string{"--discharges", "5", "--boundary", "normal:1.2"}, 2, "plausible"},
+		// The slope is named as given, in --boundary normal:S (there is no --slope here).
+		{"implausible slope", "", []string{"--discharges", "5", "--boundary", "normal:0.9"}, 2, "backwater: --boundary normal:0.9 is not a plausible friction slope"},
 		{"no discharges", "", []string{"--boundary", "critical"}, 2, "give the discharges"},
 		{"list and ladder", "", []string{"--discharges", "5", "--from", "1", "--to", "9", "--step", "1", "--boundary", "critical"}, 2, "not both"},
 		{"ladder without step", "", []string{"--from", "1", "--to", "9", "--boundary", "critical"}, 2, "go together"},
