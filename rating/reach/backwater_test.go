@@ -831,3 +831,46 @@ func TestBackwaterWallHeights(t *testing.T) {
 		}
 	}
 }
+
+// Sections whose ends are not extended (NoExtend): a boundary or a
+// balancing stage above the top of a section is reported at the top, the
+// highest stage the section holds, not at whatever trial stage the search
+// had reached ("stage 104.03 is 0.03 above the left end" for any Q).
+// Rectangles 10 m wide with ends 6 m up, beds 100, 99.8, 99.6: tops 106,
+// 105.8, 105.6. Normal depth of 1e5 m3/s at slope 0.001 lies far above
+// P2's top (at the top, A = 60 m², R = 60/22 m, K = A·R^(2/3)/n ≈ 3.9e3,
+// Q = K·√S ≈ 124 m3/s by hand). From stage 105.5 at P2, 200 m3/s needs a
+// friction loss over 200 m of about 200·(200/3819)² = 0.55 m (K at 5.9 m
+// depth, by hand): P1 would stand near 106.05 m, above its top 105.8.
+func TestBackwaterNoExtendNamesTop(t *testing.T) {
+	var secs []Section
+	for i := range 3 {
+		z := 100 - 0.2*float64(i)
+		g, err := subdivide.Compile(subdivide.Section{Name: fmt.Sprintf("P%d", i),
+			Points: saPoints(0, z+6, 0, z, 10, z, 10, z+6), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: fmt.Sprintf("P%d", i), Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	opt := BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}}
+	for _, tc := range []struct {
+		name string
+		q    float64
+		b    Boundary
+		want string
+	}{
+		{"normal boundary", 1e5, Boundary{Kind: NormalDepth, Slope: 0.001}, "not reached up to the top of the section, stage 105.6 (the lower of its ends)"},
+		{"balance upstream", 200, Boundary{Kind: KnownStage, Stage: 105.5}, "the balancing stage is not reached up to the top of the section, stage 105.8 (the lower of its ends)"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ComputeBackwater(secs, []float64{tc.q}, tc.b, opt)
+			if err == nil || !errors.Is(err, subdivide.ErrAboveEnds) || !strings.Contains(err.Error(), tc.want) || strings.Contains(err.Error(), "above the left end") {
+				t.Errorf("error %v: want one wrapping ErrAboveEnds with %q and no trial stage", err, tc.want)
+			}
+		})
+	}
+	if _, err := ComputeBackwater(secs, []float64{100}, Boundary{Kind: NormalDepth, Slope: 0.001}, opt); err != nil {
+		t.Errorf("normal depth of 100 m3/s (below the top's 124): %v", err)
+	}
+}

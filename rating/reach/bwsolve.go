@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/subdivide"
 )
 
 // bwRun is a reach prepared for computing profiles.
@@ -543,11 +544,31 @@ func (r *bwRun) rootInBand(k, j int, e *subreach, lo, hi float64) (float64, bool
 		h, err := brentRoot(f, lo, hi, flo, fhi, tol(hi))
 		return h, err == nil, err
 	}
-	// Unbounded band: bracket upwards from a warm guess.
+	// Unbounded band: bracket upwards from a warm guess. A trial stage the
+	// geometry refuses (above an end, not extended) is replaced by the top
+	// of the section: the root lies below it, or is reported not reached
+	// there rather than at the trial stage.
+	top := m.g.Top()
+	atTop := func(err error) (float64, error) {
+		if !errors.Is(err, subdivide.ErrAboveEnds) || !(top > lo) {
+			return 0, err
+		}
+		ft, errt := f(top)
+		if errt != nil {
+			return 0, err
+		}
+		if ft < 0 {
+			return 0, fmt.Errorf("%w: the balancing stage is %w", ErrNoBackwaterFit, errAboveTop(top))
+		}
+		return ft, nil
+	}
 	guess, step := r.guess(k, j, e.dn.st.stage, lo)
 	fg, err := f(guess)
 	if err != nil {
-		return 0, false, err
+		if fg, err = atTop(err); err != nil {
+			return 0, false, err
+		}
+		guess = top
 	}
 	for i := 0; fg < 0; i++ {
 		if i == MaxCurveDoublings {
@@ -557,7 +578,10 @@ func (r *bwRun) rootInBand(k, j int, e *subreach, lo, hi float64) (float64, bool
 		guess += step
 		step *= 2
 		if fg, err = f(guess); err != nil {
-			return 0, false, err
+			if fg, err = atTop(err); err != nil {
+				return 0, false, err
+			}
+			guess = top
 		}
 	}
 	h, err := brentRoot(f, lo, guess, flo, fg, tol(guess))
