@@ -237,7 +237,9 @@ func fitTablePlot(rp *RatingPlot, rep *gauged.Report, t *gauged.ControlTable) {
 }
 
 // DrawReach draws the reach profile and the sections overlaid of a
-// slope-area report. site titles them; base starts their file names.
+// slope-area report. site titles them; base starts their file names. A
+// report of one section (the slope-conveyance estimate) has no reach to
+// draw a profile of: only its section is drawn.
 func DrawReach(rep reach.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: base}
 	rp := reachPlot(rep, site)
@@ -249,6 +251,9 @@ func DrawReach(rep reach.Report, site, base string, size Size) ([]rating.Figure,
 		{"profile", "reach profile: thalweg, high-water marks, water surface and energy grade line", ReachProfile},
 		{"sections", "the reach's sections overlaid at their thalwegs, with water surfaces", ReachSections},
 	} {
+		if f.kind == "profile" && len(rp.Sections) < 2 {
+			continue
+		}
 		if err := set.add(f.kind, f.caption, func(w io.Writer) (Result, error) { return f.draw(w, rp) }); err != nil {
 			return nil, nil, err
 		}

@@ -341,6 +341,58 @@ func (r *Reach) OpenChannel() error {
 	return errs.err()
 }
 
+// SlopeAreaWarnings returns the warnings about what the slope-area method
+// does not use of a reach table: flow lengths (the method takes the
+// distance between sections as the length of each subreach; Dalrymple and
+// Benson 1967), naming the columns given, and structures marked at
+// sections (the method assumes an open channel between them).
+//
+// References:
+//
+//	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge
+//	by the slope-area method: U.S. Geological Survey Techniques of
+//	Water-Resources Investigations, book 3, chapter A2.
+func (r *Reach) SlopeAreaWarnings() []string {
+	var out []string
+	var cols, ids []string
+	for _, row := range r.Rows[:max(len(r.Rows)-1, 0)] { // the last row's are warned by ReachTable
+		given := false
+		for _, c := range []struct {
+			name string
+			v    float64
+		}{{ReachColLeftLength, row.LeftLength}, {ReachColChannelLength, row.ChannelLength}, {ReachColRightLength, row.RightLength}} {
+			if finite(c.v) {
+				given = true
+				if !slices.Contains(cols, c.name) {
+					cols = append(cols, c.name)
+				}
+			}
+		}
+		if given {
+			ids = append(ids, row.ID)
+		}
+	}
+	if len(ids) > 0 {
+		slices.SortFunc(cols, func(a, b string) int {
+			return slices.Index(ReachFlowColumns(), a) - slices.Index(ReachFlowColumns(), b)
+		})
+		which := "section "
+		if len(ids) > 1 {
+			which = "sections "
+		}
+		out = append(out, fmt.Sprintf("%s: the flow lengths in %s (%s%s) are not used: the slope-area method takes the distance "+
+			"between sections as the length of each subreach (Dalrymple and Benson 1967)",
+			(&ParseError{File: r.File, Sheet: r.Sheet}).Position(), strings.Join(cols, ", "), which, strings.Join(ids, ", ")))
+	}
+	for _, row := range r.Rows {
+		if row.Structure != "" {
+			out = append(out, fmt.Sprintf("section %s is marked as at a structure (%s): "+
+				"the slope-area method assumes an open channel between the sections", row.ID, row.Structure))
+		}
+	}
+	return out
+}
+
 // At returns a ParseError at section i's cell in the named column (one of
 // the Col constants); the whole row when the column is absent.
 func (r *Reach) At(i int, column string, err error) *ParseError {
@@ -365,6 +417,23 @@ func (r *Reach) Inputs() []string {
 		}
 	}
 	return out
+}
+
+// ResolveUnits returns the unit system of the reach: u when given (which
+// the reach table's headers must not contradict, UnitNote.Resolve), else
+// what the reach table's headers say, else what the first survey whose
+// headers name a unit says, else u. ReachSections then holds every survey
+// to it.
+func (r *Reach) ResolveUnits(u rating.Units, given bool) (rating.Units, error) {
+	if given || r.Units.Found {
+		return r.Units.Resolve(u, given)
+	}
+	for _, sv := range r.Surveys {
+		if sv.Units.Found {
+			return sv.Units.Units, nil
+		}
+	}
+	return u, nil
 }
 
 // ReachSections compiles each section's survey for the reach methods in

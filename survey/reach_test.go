@@ -430,3 +430,77 @@ func FuzzBoundaryRatingFromTable(f *testing.F) {
 		}
 	})
 }
+
+// The slope-area method takes the distance between sections as each
+// subreach's length (Dalrymple and Benson 1967, TWRI 3-A2): flow lengths
+// in a reach table are not used, and one warning says so, naming the
+// columns given and the sections (the last section's are warned by
+// ReachTable as unused for every method). A table without them, or with
+// them blank, gives no such warning; a structure is warned as before.
+func TestReachSlopeAreaWarnings(t *testing.T) {
+	for _, tc := range []struct {
+		name, table string
+		want        []string
+	}{
+		{"none", "section,survey,distance,ws_left,ws_right\nA,a.csv,0,10.9,10.8\nB,a.csv,100,10.7,10.6\n", nil},
+		{"blank", "section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\nA,a.csv,0,10.9,10.8,,,\nB,a.csv,100,10.7,10.6,,,\n", nil},
+		{"channel and right", "section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\n" +
+			"A,a.csv,0,10.9,10.8,,110,\nB,a.csv,100,10.7,10.6,,,95\nC,a.csv,200,10.5,10.4,,,\n",
+			[]string{"reach.csv: the flow lengths in channel_length, right_length (sections A, B) are not used: " +
+				"the slope-area method takes the distance between sections as the length of each subreach (Dalrymple and Benson 1967)"}},
+		{"structure", "section,survey,distance,ws_left,ws_right,structure\nA,a.csv,0,10.9,10.8,weir\nB,a.csv,100,10.7,10.6,\n",
+			[]string{"section A is marked as at a structure (weir): the slope-area method assumes an open channel between the sections"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": tc.table, "a.csv": reachSurveyCSV})
+			r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := r.SlopeAreaWarnings()
+			for i := range got {
+				got[i] = strings.ReplaceAll(got[i], filepath.Join(dir, "reach.csv"), "reach.csv")
+			}
+			if strings.Join(got, "\n") != strings.Join(tc.want, "\n") {
+				t.Errorf("warnings\n%q\nwant\n%q", got, tc.want)
+			}
+		})
+	}
+}
+
+// When neither the caller nor the reach table's headers name a unit
+// system, the first survey whose headers name one decides (surveys in ft
+// read as US units, not refused as "si units were asked for"); a unit
+// asked for, or named by the reach table, still decides, and a survey
+// that disagrees is refused.
+func TestReachResolveUnits(t *testing.T) {
+	ft := "station (ft),elevation (ft),n\n0,12,0.05\n10,9,0.05\n20,12,\n"
+	for _, tc := range []struct {
+		name, head string
+		u          rating.Units
+		given      bool
+		want       rating.Units
+		err        bool
+	}{
+		{"surveys decide", "section,survey,distance,ws_left,ws_right", rating.SI, false, rating.US, false},
+		{"asked for", "section,survey,distance,ws_left,ws_right", rating.SI, true, rating.SI, true},
+		{"table decides", "section,survey,distance (m),ws_left,ws_right", rating.SI, false, rating.SI, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": tc.head + "\nA,a.csv,0,11,11\nB,b.csv,100,10.9,10.9\n",
+				"a.csv": reachSurveyCSV, "b.csv": ft})
+			r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			u, err := r.ResolveUnits(tc.u, tc.given)
+			if err != nil || u != tc.want {
+				t.Fatalf("units %v, %v; want %v", u, err, tc.want)
+			}
+			_, err = r.ReachSections(u)
+			if (err != nil) != tc.err || (err != nil && !errors.Is(err, ErrUnitsDisagree)) {
+				t.Errorf("ReachSections(%v): %v, want an error %v", u, err, tc.err)
+			}
+		})
+	}
+}

@@ -187,8 +187,8 @@ func parseBoundary(spec string) (b reach.Boundary, file string, err error) {
 		if !(s > 0) {
 			return b, "", bad("the slope must be positive")
 		}
-		if err := checkSlope("backwater", s); err != nil {
-			return b, "", err
+		if s > maxSlope {
+			return b, "", usageError{err: fmt.Errorf("backwater: --boundary normal:%s %w", strings.TrimSpace(arg), ErrImplausibleSlope)}
 		}
 		return reach.Boundary{Kind: reach.NormalDepth, Slope: s}, "", nil
 	case "critical":
@@ -200,6 +200,9 @@ func parseBoundary(spec string) (b reach.Boundary, file string, err error) {
 		h, err := num()
 		if err != nil {
 			return b, "", err
+		}
+		if math.Abs(h) > survey.MaxElevation {
+			return b, "", usagef("backwater: --boundary stage:%s is beyond ±%g: not a plausible stage", strings.TrimSpace(arg), survey.MaxElevation)
 		}
 		return reach.Boundary{Kind: reach.KnownStage, Stage: h}, "", nil
 	case "rating":
@@ -280,7 +283,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	if err != nil {
 		return rep, err
 	}
-	if opt.Backwater.Units, err = rt.Units.Resolve(opt.Backwater.Units, unitsGiven); err != nil {
+	if opt.Backwater.Units, err = rt.ResolveUnits(opt.Backwater.Units, unitsGiven); err != nil {
 		return rep, err
 	}
 	if err := rt.OpenChannel(); err != nil {

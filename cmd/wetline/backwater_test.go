@@ -193,7 +193,8 @@ func TestBackwaterRefusals(t *testing.T) {
 		{"no boundary", "", []string{"--discharges", "5"}, 2, "--boundary is required"},
 		{"bad boundary", "", []string{"--discharges", "5", "--boundary", "tide:3"}, 2, "unknown boundary"},
 		{"boundary without number", "", []string{"--discharges", "5", "--boundary", "normal:steep"}, 2, "not a finite number"},
-		{"implausible slope", "", []string{"--discharges", "5", "--boundary", "normal:1.2"}, 2, "plausible"},
+		// The slope is named as given, in --boundary normal:S (there is no --slope here).
+		{"implausible slope", "", []string{"--discharges", "5", "--boundary", "normal:0.9"}, 2, "backwater: --boundary normal:0.9 is not a plausible friction slope"},
 		{"no discharges", "", []string{"--boundary", "critical"}, 2, "give the discharges"},
 		{"list and ladder", "", []string{"--discharges", "5", "--from", "1", "--to", "9", "--step", "1", "--boundary", "critical"}, 2, "not both"},
 		{"ladder without step", "", []string{"--from", "1", "--to", "9", "--boundary", "critical"}, 2, "go together"},
@@ -205,6 +206,8 @@ func TestBackwaterRefusals(t *testing.T) {
 		{"xlsx to stdout", "", []string{"--discharges", "5", "--boundary", "critical", "--format", "xlsx"}, 2, "needs -o"},
 		{"verify without marks", "", []string{"--discharges", "5", "--boundary", "critical", "--verify", "20"}, 1, "no section of the reach has a high-water mark"},
 		{"missing rating file", "", []string{"--discharges", "5", "--boundary", "rating:nowhere.csv"}, 1, "nowhere.csv"},
+		// A stage is held to ±1e5 as every stage flag is (survey.MaxElevation).
+		{"implausible stage", "", []string{"--discharges", "5", "--boundary", "stage:1e9"}, 2, "--boundary stage:1e9 is beyond ±100000: not a plausible stage"},
 		{"stage below the bed", "", []string{"--discharges", "5", "--boundary", "stage:99"}, 1, "not above its lowest ground"},
 		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
 			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": the section is at a structure"},

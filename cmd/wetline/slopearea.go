@@ -162,7 +162,7 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	if err != nil {
 		return reach.Report{}, err
 	}
-	if opt.SlopeArea.Units, err = rt.Units.Resolve(opt.SlopeArea.Units, unitsGiven); err != nil {
+	if opt.SlopeArea.Units, err = rt.ResolveUnits(opt.SlopeArea.Units, unitsGiven); err != nil {
 		return reach.Report{}, err
 	}
 	secs, err := rt.ReachSections(opt.SlopeArea.Units)
@@ -178,12 +178,6 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	}
 	rep.Name = survey.Position(path, sheet)
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: rt.Inputs(), Site: rt.Site}
-	rep.Warnings = append(append([]string(nil), rt.Warnings...), rep.Warnings...)
-	for _, row := range rt.Rows {
-		if row.Structure != "" {
-			rep.Warnings = append(rep.Warnings, fmt.Sprintf("section %s is marked as at a structure (%s): "+
-				"the slope-area method assumes an open channel between the sections", row.ID, row.Structure))
-		}
-	}
+	rep.Warnings = append(append(append([]string(nil), rt.Warnings...), rep.Warnings...), rt.SlopeAreaWarnings()...)
 	return rep, nil
 }

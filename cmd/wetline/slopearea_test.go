@@ -148,6 +148,20 @@ func TestSlopeAreaOneSectionSlope(t *testing.T) {
 	if !strings.Contains(out, "weaker method") || !strings.Contains(out, "slope-conveyance") {
 		t.Errorf("report does not label the weaker method:\n%s", out)
 	}
+	// The Monte Carlo flags (on by default) do not apply to one section:
+	// said, not silent.
+	if !strings.Contains(out, "no uncertainty band: the Monte Carlo analysis") {
+		t.Errorf("report does not say the uncertainty flags do not apply:\n%s", out)
+	}
+	// No profile of a reach of one section, only the section.
+	plots := filepath.Join(dir, "figs")
+	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--slope", "0.001", "--plots", plots,
+		"-o", filepath.Join(dir, "r.txt")); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if names, _ := filepath.Glob(filepath.Join(plots, "*.png")); len(names) != 1 || filepath.Base(names[0]) != "reach-sections.png" {
+		t.Errorf("figures %q: want reach-sections.png only", names)
+	}
 	// Triangle of depth 1 m and side slopes 5:1: A = 5 m², P = 2√26 m,
 	// Q = A·R^(2/3)·√S/n (Chow 1959, eq. 6-9) = 2.458 m³/s (by hand).
 	if !strings.Contains(out, "Peak discharge  2.458 m3/s") {
@@ -232,5 +246,48 @@ func TestSlopeAreaPlots(t *testing.T) {
 	}
 	if _, err := os.Stat(none); err == nil {
 		t.Error("figures folder made for a failed run")
+	}
+}
+
+// Flow lengths in the reach table are not used by the slope-area method,
+// which takes the distance between sections (Dalrymple and Benson 1967,
+// TWRI 3-A2): the report warns, naming the columns, instead of ignoring
+// them silently.
+func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\n"+
+		"A,a.csv,0,11.2,,90,100,110\nB,b.csv,100,11,,,,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"))
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if want := "the flow lengths in left_length, channel_length, right_length (section A) are not used: " +
+		"the slope-area method takes the distance between sections"; !strings.Contains(out, want) {
+		t.Errorf("report lacks %q:\n%s", want, out)
+	}
+}
+
+// A reach table without unit headers, its surveys in ft and no --units:
+// the surveys' headers decide (US units), as a single survey's do for
+// rate, instead of "the header says ft (us units) but si units were
+// asked for" when nothing was asked for.
+func TestSlopeAreaUnitsFromSurveys(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,11.2,\nB,b.csv,300,11,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station (ft),elevation (ft),n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+	os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station (ft),elevation (ft),n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--draws", "0")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "US units (lengths ft, discharge ft3/s)") {
+		t.Errorf("report not in US units:\n%s", out)
+	}
+	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--units", "si"); code != 1 || !strings.Contains(errs, "si units were asked for") {
+		t.Errorf("--units si with surveys in ft: exit %d: %s", code, errs)
 	}
 }

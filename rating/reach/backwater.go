@@ -151,8 +151,10 @@ type SurfaceProfile struct {
 	// Warnings are facts about this profile.
 	Warnings []string
 	// HalfwayStart is the stage half-way between Start and SecondStart
-	// from which the third profile was computed (Start itself where the
-	// half-way stage would be supercritical).
+	// from which the third profile was computed; where that stage is
+	// supercritical, the first subcritical stage nearer Start found by
+	// halving its distance from Start (HalfwayTries), or Start itself,
+	// warned, where there is none.
 	HalfwayStart float64
 }
 

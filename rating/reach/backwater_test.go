@@ -2,6 +2,7 @@ package reach
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -617,7 +618,7 @@ func TestBackwaterOptions(t *testing.T) {
 		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
 	}
 	all := strings.Join(res.Warnings, "\n")
-	for _, want := range []string{"channel flow length 260.0 m", "above an end of the section"} {
+	for _, want := range []string{"channel flow length 260.0 m", "above the left end of the section: a vertical wall up to"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("no warning with %q in %q", want, res.Warnings)
 		}
@@ -672,5 +673,204 @@ func TestBackwaterHalfwayStart(t *testing.T) {
 	if two := math.Abs(s.WaterSurface - s.SecondWaterSurface); !(two < SpreadToleranceSI) || !rd.Unsettled || !(rd.Spread > 10*SpreadToleranceSI) {
 		t.Errorf("Q %g: the first two profiles differ by %.4f at %s, the half-way one by %.4f; read spread %.4f unsettled %v: want a chance agreement caught",
 			p.Discharge, two, s.ID, math.Abs(s.WaterSurface-s.HalfwayWaterSurface), rd.Spread, rd.Unsettled)
+	}
+}
+
+// qaCompound returns a two-section compound reach (invented): a channel
+// 10 m wide and 2 m deep (n 0.03) between floodplains 30 and 40 m wide
+// rising 0.1 m to their outer ends (n 0.06 and 0.08) and walls to 4 m
+// above the channel floor, the downstream section (B, 200 m on) 0.2 m
+// lower; A has flow lengths 100, 200 and 300 m. At the floodplains' level
+// the top width jumps from 10 to about 80 m, so that a compound section of
+// this kind has several critical stages (Blalock and Sturm 1981) and a
+// supercritical band of stages just above the floodplains.
+func qaCompound(t *testing.T) []Section {
+	t.Helper()
+	var secs []Section
+	for i, id := range []string{"A", "B"} {
+		z := 100 - 0.2*float64(i)
+		s := subdivide.Section{Name: id, HasBanks: true, LeftBank: 40, RightBank: 50,
+			N: []float64{0.06, 0.06, 0.03, 0.03, 0.03, 0.08, 0.08}}
+		for _, p := range [][2]float64{{0, 6}, {10, 2.1}, {40, 2}, {40, 0}, {50, 0}, {50, 2}, {90, 2.1}, {100, 6}} {
+			s.Points = append(s.Points, subdivide.Point{Station: p[0], Elevation: z + p[1]})
+		}
+		g, err := subdivide.Compile(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: id, Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	secs[0].FlowLengths = subdivide.PerRegion{Left: 100, Channel: 200, Right: 300}
+	return secs
+}
+
+// froudeAt returns the Froude number of discharge q at stage h in g,
+// from rating.Hydraulics: Fr = √(α·Q²·T/(g·A³)), proportional to Q, so
+// the row's value at slope 1 is scaled by q over the row's discharge.
+func froudeAt(t *testing.T, g subdivide.Geometry, h, q float64) float64 {
+	t.Helper()
+	r := hydraulicsAt(t, g, h, subdivide.Options{})
+	// The row holds the Froude number at slope 1; scale it to discharge q.
+	return r.Froude * q / r.Discharge
+}
+
+// Where the stage half-way between the two starts is supercritical (in the
+// band above the floodplains of a compound section), the third start is
+// looked for nearer the first: s1 + (s2 − s1)/2^k, k = 1, 2, ..., the
+// first whose Froude number, recomputed here from rating.Hydraulics, is
+// at most 1. Boundary stage 102.8 m at B; at Q = 60 m3/s the second
+// start is critical depth in the channel, about 101.34 m, and half-way,
+// about 102.07 m, lies just above the floodplains (102.0 to 102.1 m at
+// B), where it is supercritical. Where s1 lies just above the highest
+// critical stage, every trial stage down towards s2 is supercritical: the
+// third start is s1 itself and the profile and the report say so.
+func TestBackwaterHalfwaySupercritical(t *testing.T) {
+	secs := qaCompound(t)
+	gB := secs[1].Geometry
+	res, err := ComputeBackwater(secs, []float64{10, 60, 150}, Boundary{Kind: KnownStage, Stage: 102.8}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	moved := false
+	for _, p := range res.Profiles {
+		s1, s2 := p.Start, p.SecondStart
+		want := math.NaN()
+		for k, d := 1, (s2-s1)/2; k <= HalfwayTries; k, d = k+1, d/2 {
+			if froudeAt(t, gB, s1+d, p.Discharge) <= 1 {
+				want = s1 + d
+				break
+			}
+			moved = moved || p.Discharge == 60
+		}
+		if math.Abs(p.HalfwayStart-want) > 1e-12 {
+			t.Errorf("Q %g: third start %.6f, want %.6f (starts %.6f, %.6f)", p.Discharge, p.HalfwayStart, want, s1, s2)
+		}
+		if p.HalfwayStart == s1 {
+			t.Errorf("Q %g: third start is the first start %.6f", p.Discharge, s1)
+		}
+		if len(p.Warnings) > 0 {
+			t.Errorf("Q %g: warnings %q", p.Discharge, p.Warnings)
+		}
+	}
+	if !moved {
+		t.Error("at Q 60 half-way was not supercritical: the case does not test the search")
+	}
+
+	// No subcritical stage between: the first start just above the
+	// highest critical stage at B, the second just below the one beneath
+	// it (where the flow falls supercritical as the floodplains wet), so
+	// that every trial stage lies in the supercritical band between.
+	const q = 60
+	crit, err := rating.CriticalStages(gB, q, rating.Options{Slope: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(crit) != 3 {
+		t.Fatalf("critical stages %v: want three", crit)
+	}
+	top, below := crit[2].Stage+1e-4, crit[1].Stage-1e-4
+	for _, h := range []float64{top, below} {
+		if froudeAt(t, gB, h, q) > 1 {
+			t.Fatalf("stage %.6f supercritical (critical stages %v)", h, crit)
+		}
+	}
+	second := Boundary{Kind: KnownStage, Stage: below}
+	res, err = ComputeBackwater(secs, []float64{q}, Boundary{Kind: KnownStage, Stage: top}, BackwaterOptions{Second: &second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := res.Profiles[0]
+	if p.HalfwayStart != p.Start || p.Start != top {
+		t.Errorf("third start %.6f, first %.6f, want both %.6f", p.HalfwayStart, p.Start, top)
+	}
+	if len(p.Warnings) != 1 || !strings.Contains(p.Warnings[0], "third profile starts at the first start") {
+		t.Errorf("profile warnings %q: want one on the third start", p.Warnings)
+	}
+	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at 1 of 1 discharges no stage tried between the two starts is subcritical") {
+		t.Errorf("report warnings %q: want the third start named", res.Warnings)
+	}
+}
+
+// A stage above the ends of a section is computed with vertical walls
+// added there, and the warning says how high they stand, as a rating
+// table's does (rating.ExtensionWarnings). Three rectangular sections 10 m
+// wide with ends 6 m above the bed (z = 100, 99.8, 99.6), boundary stage
+// 8 m above the last bed, 107.6 m: at P2 the walls stand 107.6 − 105.6 =
+// 2.000 m on both sides (by hand). Upstream the stages are higher still,
+// each wall the section's highest stage less its end elevation.
+func TestBackwaterWallHeights(t *testing.T) {
+	var secs []Section
+	for i := range 3 {
+		z := 100 - 0.2*float64(i)
+		g, err := subdivide.Compile(subdivide.Section{Name: fmt.Sprintf("P%d", i),
+			Points: saPoints(0, z+6, 0, z, 10, z, 10, z+6), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: fmt.Sprintf("P%d", i), Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	res, err := ComputeBackwater(secs, []float64{50, 100}, Boundary{Kind: KnownStage, Stage: 107.6}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	all := strings.Join(res.Warnings, "\n")
+	for _, want := range []string{
+		"section P2: stages up to 107.600 m are above the left end of the section: a vertical wall up to 2.000 m high was added there",
+		"section P2: stages up to 107.600 m are above the right end of the section: a vertical wall up to 2.000 m high was added there",
+	} {
+		if !strings.Contains(all, want) {
+			t.Errorf("warnings lack %q:\n%s", want, all)
+		}
+	}
+	for j := range 2 {
+		h := math.Max(res.Profiles[0].Sections[j].WaterSurface, res.Profiles[1].Sections[j].WaterSurface)
+		want := fmt.Sprintf("section P%d: stages up to %.3f m are above the left end of the section: a vertical wall up to %.3f m high was added there",
+			j, h, h-(106-0.2*float64(j)))
+		if !strings.Contains(all, want) {
+			t.Errorf("warnings lack %q:\n%s", want, all)
+		}
+	}
+}
+
+// Sections whose ends are not extended (NoExtend): a boundary or a
+// balancing stage above the top of a section is reported at the top, the
+// highest stage the section holds, not at whatever trial stage the search
+// had reached ("stage 104.03 is 0.03 above the left end" for any Q).
+// Rectangles 10 m wide with ends 6 m up, beds 100, 99.8, 99.6: tops 106,
+// 105.8, 105.6. Normal depth of 1e5 m3/s at slope 0.001 lies far above
+// P2's top (at the top, A = 60 m², R = 60/22 m, K = A·R^(2/3)/n ≈ 3.9e3,
+// Q = K·√S ≈ 124 m3/s by hand). From stage 105.5 at P2, 200 m3/s needs a
+// friction loss over 200 m of about 200·(200/3819)² = 0.55 m (K at 5.9 m
+// depth, by hand): P1 would stand near 106.05 m, above its top 105.8.
+func TestBackwaterNoExtendNamesTop(t *testing.T) {
+	var secs []Section
+	for i := range 3 {
+		z := 100 - 0.2*float64(i)
+		g, err := subdivide.Compile(subdivide.Section{Name: fmt.Sprintf("P%d", i),
+			Points: saPoints(0, z+6, 0, z, 10, z, 10, z+6), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: fmt.Sprintf("P%d", i), Geometry: g, Distance: 200 * float64(i), Left: math.NaN(), Right: math.NaN()})
+	}
+	opt := BackwaterOptions{Geometry: subdivide.Options{NoExtend: true}}
+	for _, tc := range []struct {
+		name string
+		q    float64
+		b    Boundary
+		want string
+	}{
+		{"normal boundary", 1e5, Boundary{Kind: NormalDepth, Slope: 0.001}, "not reached up to the top of the section, stage 105.6 (the lower of its ends)"},
+		{"balance upstream", 200, Boundary{Kind: KnownStage, Stage: 105.5}, "the balancing stage is not reached up to the top of the section, stage 105.8 (the lower of its ends)"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ComputeBackwater(secs, []float64{tc.q}, tc.b, opt)
+			if err == nil || !errors.Is(err, subdivide.ErrAboveEnds) || !strings.Contains(err.Error(), tc.want) || strings.Contains(err.Error(), "above the left end") {
+				t.Errorf("error %v: want one wrapping ErrAboveEnds with %q and no trial stage", err, tc.want)
+			}
+		})
+	}
+	if _, err := ComputeBackwater(secs, []float64{100}, Boundary{Kind: NormalDepth, Slope: 0.001}, opt); err != nil {
+		t.Errorf("normal depth of 100 m3/s (below the top's 124): %v", err)
 	}
 }

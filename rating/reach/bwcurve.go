@@ -2,6 +2,7 @@ package reach
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"sort"
 
@@ -51,6 +52,14 @@ type bwCurve struct {
 	refused error
 }
 
+// errAboveTop is the error of a level or a balance not reached up to
+// stage top, the top of a section whose ends are not extended
+// (Options.NoExtend); it wraps subdivide.ErrAboveEnds.
+func errAboveTop(top float64) error {
+	return fmt.Errorf("not reached up to the top of the section, stage %.6g (the lower of its ends), "+
+		"which is not extended: %w", top, subdivide.ErrAboveEnds)
+}
+
 // bwSpan is a monotonic run of knots.
 type bwSpan struct {
 	from, to int
@@ -81,7 +90,17 @@ func newBWCurve(m *bwModel, fn func(*bwState) float64) (*bwCurve, error) {
 			}
 			v, err := c.value(j, h, &st)
 			if errors.Is(err, subdivide.ErrAboveEnds) {
-				c.refused = err
+				// The curve ends at the top of the section, sampled there
+				// when the refused stage lies beyond it, and a level it
+				// does not reach is reported there, not at the refused
+				// sample.
+				top := m.g.Top()
+				if n := len(c.knots); top < h && (n == 0 || top > c.knots[n-1].h) {
+					if vt, err := c.value(j, top, &st); err == nil {
+						c.knots = append(c.knots, bwKnot{h: top, v: vt, band: j, jump: n == start && j > 0})
+					}
+				}
+				c.refused = errAboveTop(top)
 				break
 			}
 			if err != nil {

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/subdivide"
 )
 
 // bwRun is a reach prepared for computing profiles.
@@ -203,7 +204,12 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	if err != nil {
 		return p, fmt.Errorf("second profile: %w", err)
 	}
-	p.HalfwayStart = r.halfway(s1, s2, q)
+	var between bool
+	if p.HalfwayStart, between = r.halfway(s1, s2, q); !between {
+		p.Warnings = append(p.Warnings, fmt.Sprintf(
+			"every stage tried between the start %.3f %s and the second start %.3f %s at %s is supercritical: "+
+				"the third profile starts at the first start and checks nothing", s1, r.u.Length(), s2, r.u.Length(), r.secs[n-1].ID))
+	}
 	rows3, err := r.march(2, p.HalfwayStart, false, q)
 	if err != nil {
 		return p, fmt.Errorf("half-way profile: %w", err)
@@ -223,17 +229,30 @@ func (r *bwRun) profile(q float64) (SurfaceProfile, error) {
 	return p, nil
 }
 
-// halfway returns the stage half-way between the starts s1 and s2 of
-// discharge q, or s1 where that stage is supercritical (a compound
-// section with several critical stages), so that the half-way profile is
-// always a subcritical one.
-func (r *bwRun) halfway(s1, s2, q float64) float64 {
-	h := (s1 + s2) / 2
+// HalfwayTries is how many times the distance of the third start from
+// the first is halved, from half-way between the two starts, while the
+// stage there is supercritical.
+const HalfwayTries = 6
+
+// halfway returns the third start of discharge q between the starts s1
+// and s2: half-way between them where that stage is subcritical, else the
+// first subcritical stage of s1 + (s2 − s1)/2^k, k = 2 … HalfwayTries (a
+// compound section can have several critical stages, so that half-way may
+// lie in a supercritical band while stages nearer s1 do not). Where none
+// of them is subcritical it returns s1 and false, so that the third
+// profile is always a subcritical one.
+func (r *bwRun) halfway(s1, s2, q float64) (float64, bool) {
+	m := r.models[len(r.secs)-1]
 	var st bwState
-	if err := r.models[len(r.secs)-1].state(h, &st); err != nil || !st.wet() || st.froude(q, r.u) > 1 {
-		return s1
+	d := (s2 - s1) / 2
+	for range HalfwayTries {
+		h := s1 + d
+		if err := m.state(h, &st); err == nil && st.wet() && !(st.froude(q, r.u) > 1) {
+			return h, true
+		}
+		d /= 2
 	}
-	return h
+	return s1, false
 }
 
 // section fills the reported values of section j; second and halfway are
@@ -525,11 +544,31 @@ func (r *bwRun) rootInBand(k, j int, e *subreach, lo, hi float64) (float64, bool
 		h, err := brentRoot(f, lo, hi, flo, fhi, tol(hi))
 		return h, err == nil, err
 	}
-	// Unbounded band: bracket upwards from a warm guess.
+	// Unbounded band: bracket upwards from a warm guess. A trial stage the
+	// geometry refuses (above an end, not extended) is replaced by the top
+	// of the section: the root lies below it, or is reported not reached
+	// there rather than at the trial stage.
+	top := m.g.Top()
+	atTop := func(err error) (float64, error) {
+		if !errors.Is(err, subdivide.ErrAboveEnds) || !(top > lo) {
+			return 0, err
+		}
+		ft, errt := f(top)
+		if errt != nil {
+			return 0, err
+		}
+		if ft < 0 {
+			return 0, fmt.Errorf("%w: the balancing stage is %w", ErrNoBackwaterFit, errAboveTop(top))
+		}
+		return ft, nil
+	}
 	guess, step := r.guess(k, j, e.dn.st.stage, lo)
 	fg, err := f(guess)
 	if err != nil {
-		return 0, false, err
+		if fg, err = atTop(err); err != nil {
+			return 0, false, err
+		}
+		guess = top
 	}
 	for i := 0; fg < 0; i++ {
 		if i == MaxCurveDoublings {
@@ -539,7 +578,10 @@ func (r *bwRun) rootInBand(k, j int, e *subreach, lo, hi float64) (float64, bool
 		guess += step
 		step *= 2
 		if fg, err = f(guess); err != nil {
-			return 0, false, err
+			if fg, err = atTop(err); err != nil {
+				return 0, false, err
+			}
+			guess = top
 		}
 	}
 	h, err := brentRoot(f, lo, guess, flo, fg, tol(guess))
@@ -592,14 +634,22 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 	u := r.u
 	for j, s := range r.secs {
 		if h := r.walls[j]; finite(h) {
-			out = append(out, fmt.Sprintf("section %s: stages up to %.3f %s are above an end of the section: a vertical wall was added there",
-				s.ID, h, u.Length()))
+			// The heights of the walls at the highest stage, as a rating
+			// table words them.
+			w, err := s.Geometry.At(h, r.models[j].gopt)
+			ws := rating.ExtensionWarnings(w.ExtendedLeft, w.ExtendedRight, h, u)
+			if err != nil || len(ws) == 0 {
+				ws = []string{fmt.Sprintf("stages up to %.3f %s are above an end of the section: a vertical wall was added there", h, u.Length())}
+			}
+			for _, w := range ws {
+				out = append(out, "section "+s.ID+": "+w)
+			}
 		}
 		if r.pools[j] > 1 && r.models[j].gopt.AllPools {
 			out = append(out, fmt.Sprintf("section %s: the water stands in up to %d separate pools; all are counted", s.ID, r.pools[j]))
 		}
 	}
-	crit, starts, jumps, worst := 0, 0, 0, 0.0
+	crit, starts, third, jumps, worst := 0, 0, 0, 0, 0.0
 	for _, p := range ps {
 		for _, s := range p.Sections {
 			if s.Jump {
@@ -616,6 +666,9 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 		if p.StartCritical && r.b.Kind != CriticalDepth {
 			starts++
 		}
+		if p.HalfwayStart == p.Start && p.SecondStart != p.Start {
+			third++
+		}
 	}
 	if crit > 0 {
 		out = append(out, fmt.Sprintf("at %d of %d discharges the profile passes through critical depth (see the sections marked critical): "+
@@ -628,6 +681,10 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 	}
 	if starts > 0 {
 		out = append(out, fmt.Sprintf("at %d of %d discharges the boundary stage is below critical depth: those profiles start at critical depth", starts, len(ps)))
+	}
+	if third > 0 {
+		out = append(out, fmt.Sprintf("at %d of %d discharges no stage tried between the two starts is subcritical: "+
+			"the third profile starts at the first start there and does not check it (see the profiles' notes)", third, len(ps)))
 	}
 	if w := unsettledWarning(rt, u); w != "" {
 		out = append(out, w)

@@ -50,7 +50,8 @@ var ErrSlopeForReach = errors.New("a slope is only for a reach of one section (t
 const FailedDrawsWarn = 0.01
 
 // Estimate computes the flood peak of a reach: with one section and a
-// slope, the slope-conveyance estimate Q = K·√S (SlopeConveyance); with
+// slope, the slope-conveyance estimate Q = K·√S (SlopeConveyance), with
+// no uncertainty analysis (a warning says so when opt.Draws > 0); with
 // two or more, the slope-area estimate of all subreaches together
 // (SolveSlopeArea) and, when opt.Draws > 0, its Monte Carlo uncertainty
 // (MonteCarlo). The report's Name, Provenance and Figures are left for the
@@ -74,6 +75,10 @@ func Estimate(secs []Section, opt EstimateOptions) (Report, error) {
 		}
 		rep.Result = res
 		rep.Warnings = append(rep.Warnings, res.Warnings...)
+		if opt.Draws > 0 {
+			rep.Warnings = append(rep.Warnings, "no uncertainty band: the Monte Carlo analysis (its draws, n variation and mark "+
+				"standard deviation) is of the slope-area estimate of two or more sections and does not apply to the slope-conveyance estimate")
+		}
 		return rep, nil
 	}
 	if opt.Slope != 0 {

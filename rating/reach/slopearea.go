@@ -240,12 +240,13 @@ type Subreach struct {
 	// Discharge is this subreach solved alone (NaN when it has no real
 	// solution).
 	Discharge float64
-	// Expanding reports a velocity head falling downstream; EddyK is the
+	// Expanding reports a velocity head falling downstream (by more than
+	// VelocityHeadTolerance of it); EddyK is the
 	// eddy-loss coefficient applied (ExpandingEddyK or ContractingEddyK).
 	Expanding bool
 	EddyK     float64
 	// At the reach discharge: FrictionLoss Q²L/(KuKd), VelocityHeadChange
-	// hvu − hvd, and EddyLoss k·(hvu − hvd).
+	// hvu − hvd (0 within VelocityHeadTolerance), and EddyLoss k·(hvu − hvd).
 	FrictionLoss, VelocityHeadChange, EddyLoss float64
 	// ConveyanceRatio is Kd/Ku.
 	ConveyanceRatio float64
@@ -386,15 +387,33 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 	return nil
 }
 
+// VelocityHeadTolerance is the relative difference, of the larger of two
+// velocity heads, below which they count as equal: sections of the same
+// shape at the same depth differ by round-off only, and their subreach
+// neither expands nor contracts.
+const VelocityHeadTolerance = 1e-9
+
+// headChange returns up − dn, or 0 where the two differ by no more than
+// VelocityHeadTolerance of the larger.
+func headChange(up, dn float64) float64 {
+	d := up - dn
+	if math.Abs(d) <= VelocityHeadTolerance*math.Max(math.Abs(up), math.Abs(dn)) {
+		return 0
+	}
+	return d
+}
+
 // saSubreachTerm returns the denominator term of one subreach,
-// L/(Ku·Kd) − (1−k)·(cu − cd)/(2g), and whether it expands.
+// L/(Ku·Kd) − (1−k)·(cu − cd)/(2g), and whether it expands (cu > cd by
+// more than VelocityHeadTolerance).
 func saSubreachTerm(l float64, up, dn *saSectionState, u rating.Units) (term float64, expanding bool) {
-	expanding = up.c > dn.c
+	dc := headChange(up.c, dn.c)
+	expanding = dc > 0
 	k := ContractingEddyK
 	if expanding {
 		k = ExpandingEddyK
 	}
-	return l/(up.k*dn.k) - (1-k)*(up.c-dn.c)/(2*u.Gravity()), expanding
+	return l/(up.k*dn.k) - (1-k)*dc/(2*u.Gravity()), expanding
 }
 
 // saReachQ solves the whole reach for the water surfaces ws and states sts.
@@ -495,7 +514,7 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 			sr.EddyK = ExpandingEddyK
 		}
 		sr.FrictionLoss = q * q * l / (sts[j].k * sts[j+1].k)
-		sr.VelocityHeadChange = up.VelocityHead - dn.VelocityHead
+		sr.VelocityHeadChange = headChange(up.VelocityHead, dn.VelocityHead)
 		if expanding {
 			sr.EddyLoss = sr.EddyK * sr.VelocityHeadChange
 		}

@@ -2,6 +2,7 @@ package reach
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -533,5 +534,47 @@ func TestSlopeAreaSubsections(t *testing.T) {
 	}
 	if saRelErr(a, s.Area) > saClosedFormTol || saRelErr(k, s.Conveyance) > saClosedFormTol {
 		t.Errorf("subsections add to area %g and K %g, section %g and %g", a, k, s.Area, s.Conveyance)
+	}
+}
+
+// Eleven identical rectangular sections 10 m wide with n 0.03, 200 m
+// apart on a bed falling 0.2 m per section (z = 100 − 0.2·I), marks
+// 1.6456 m above each bed (parallel to it): every section has the same
+// depth, area and velocity head, so no subreach expands or contracts
+// (Dalrymple & Benson 1967, TWRI 3-A2: the eddy loss is k·Δhv with Δhv = 0)
+// and the velocity-head change is 0, not the round-off of the elevations
+// (101.0456 − 99.4 and 100.8456 − 99.2 differ in the last bits). The
+// discharge is then uniform flow, Q = K·√(F/L) (Chow 1959, eq. 6-9).
+func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
+	var secs []Section
+	for i := range 11 {
+		// The elevations as read from a table written in decimals: the
+		// nearest doubles to 99.4, 101.0456, ...
+		z := math.Round(1000-2*float64(i)) / 10
+		g, err := subdivide.Compile(subdivide.Section{Points: saPoints(0, z+6, 0, z, 10, z, 10, z+6), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws := math.Round(1e4*z+16456) / 1e4
+		secs = append(secs, Section{ID: fmt.Sprintf("X%d", i), Geometry: g, Distance: 200 * float64(i), Left: ws, Right: ws})
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, sr := range res.Subreaches {
+		if sr.Expanding || sr.VelocityHeadChange != 0 || sr.EddyLoss != 0 {
+			t.Errorf("%s to %s: expanding %v, velocity-head change %g, eddy loss %g: want not expanding, 0, 0",
+				sr.From, sr.To, sr.Expanding, sr.VelocityHeadChange, sr.EddyLoss)
+		}
+	}
+	for _, c := range res.Checks {
+		if strings.HasPrefix(c.Name, "contracting") && (!c.Pass || c.Value != 0) {
+			t.Errorf("check %s: value %g, pass %v", c.Name, c.Value, c.Pass)
+		}
+	}
+	_, k, _ := saTrapezoidAKT(10, 0, 1.6456, 0.03)
+	if want := k * math.Sqrt(2.0/2000); saRelErr(res.Discharge, want) > saClosedFormTol {
+		t.Errorf("Q = %.9g, uniform flow %.9g", res.Discharge, want)
 	}
 }

@@ -298,7 +298,7 @@ func bwTextMethod(line func(string, ...any), rep reach.BackwaterReport) {
 	line("  eddy loss     %g × the fall of velocity head (expanding), %g × its rise (contracting)", r.Expansion, r.Contraction)
 	line("  boundary      %s, at %s", BackwaterBoundaryWords(rep), last)
 	line("  second start  %s", r.SecondBoundary)
-	line("  third start   half-way between the two")
+	line("  third start   half-way between the two (nearer the first where half-way is supercritical)")
 	line("  sections      %d, rating read at %s; spread tolerance %g %s", len(rep.Sections), r.Rating.Section, r.Rating.Tolerance, u.Length())
 	if n > 0 {
 		lo, hi := math.Inf(1), math.Inf(-1)

@@ -79,7 +79,7 @@ func writeBWSummary(b *workbook.Book, rep reach.BackwaterReport) error {
 		{"sections", len(rep.Sections), ""},
 		{"downstream boundary", boundary, ""},
 		{"second start of every profile", r.SecondBoundary, ""},
-		{"third start of every profile", "half-way between the two", ""},
+		{"third start of every profile", "half-way between the two (nearer the first where half-way is supercritical)", ""},
 		{"rating section", r.Rating.Section, ""},
 		{"spread tolerance", num("0.000", r.Rating.Tolerance), u.Length()},
 		{"discharges", len(r.Profiles), ""},
