@@ -466,7 +466,7 @@ func TestFitWorkbookGaugings(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
-	if doc.Gaugings[0].Time != "2023-03-15T12:00:00" {
+	if doc.Gaugings[0].Time != "2023-03-15T12:00:00Z" {
 		t.Errorf("first time %q", doc.Gaugings[0].Time)
 	}
 	// Noise-free Q = 8·(h − 0.3)² (closed form).
