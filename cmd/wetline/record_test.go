@@ -380,3 +380,30 @@ func checkPNGSize(t *testing.T, path string, w, h int) {
 		t.Errorf("%s: %d×%d (%v), want %d×%d", path, cfg.Width, cfg.Height, err, w, h)
 	}
 }
+
+// The stage record's site keys name the site of the record, in its text
+// and JSON, as the other readers' do.
+func TestRecordStageSite(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	data, err := os.ReadFile("testdata/record/linear-stage.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	stage := filepath.Join(dir, "stage.csv")
+	if err := os.WriteFile(stage, append([]byte("# site: Fernbrook at Old Weir\n# site id: FB-1\n"), data...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := []string{"record", stage, "--rating", "testdata/record/linear.csv", "--max-gap", "6h"}
+	out, errs, code := runCLI(t, args...)
+	if code != 0 || !strings.Contains(out, "Site: Fernbrook at Old Weir (id FB-1)") {
+		t.Errorf("text: exit %d, no site line:\n%.600s\n%s", code, out, errs)
+	}
+	out, errs, code = runCLI(t, append(args, "--format", "json")...)
+	var doc struct {
+		Site *struct{ Name, ID string }
+	}
+	if code != 0 || json.Unmarshal([]byte(out), &doc) != nil || doc.Site == nil || doc.Site.Name != "Fernbrook at Old Weir" || doc.Site.ID != "FB-1" {
+		t.Errorf("JSON: exit %d, site %+v\n%s", code, doc.Site, errs)
+	}
+}
