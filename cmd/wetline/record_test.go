@@ -106,7 +106,7 @@ func TestRecordJSONContract(t *testing.T) {
 	for _, c := range []struct {
 		got, want []string
 	}{
-		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site"}},
+		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site", "units"}},
 		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table"}},
@@ -119,9 +119,15 @@ func TestRecordJSONContract(t *testing.T) {
 	var doc struct {
 		Caution string
 		Daily   []struct{ Mean *float64 }
+		Units   map[string]string
 	}
 	if err := json.Unmarshal(data, &doc); err != nil {
 		t.Fatal(err)
+	}
+	// The record's inputs name metres (stage (m)): SI, as shifts and fit
+	// state it.
+	if u := doc.Units; u["system"] != "si" || u["length"] != "m" || u["discharge"] != "m3/s" {
+		t.Errorf("units %v", u)
 	}
 	if !strings.Contains(doc.Caution, "provisional") || !strings.Contains(doc.Caution, "verify them against discharge measurements") {
 		t.Errorf("caution %q", doc.Caution)
@@ -335,7 +341,7 @@ func TestDemoRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution,site" {
+	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution,site,units" {
 		t.Errorf("keys %s", got)
 	}
 	var doc struct {
