@@ -510,8 +510,10 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	p("%s: %d measurements, %s units\n", title, len(r.Gaugings), u)
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
-	case r.Hydraulic != nil:
+	case r.Hydraulic != nil && r.DatumGiven:
 		p("Gauge datum: elevation = gauge height + %s %s (--datum); hydraulic rating at slope %g\n", FormatFloat(r.Datum), L, r.Slope)
+	case r.Hydraulic != nil:
+		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating at slope %g\n", r.Slope)
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:
