@@ -690,8 +690,8 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		p("  x %s\n", s)
 	}
 	if c := r.Comparison; c != nil {
-		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
-			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
+		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d compared outside their quality bands\n",
+			fixed(c.MeanLogDeparturePercent, 1), c.Outside, c.Compared())
 	}
 }
 

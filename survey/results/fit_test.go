@@ -288,3 +288,28 @@ func TestFitGaugingTimesCarryOffset(t *testing.T) {
 		t.Errorf("JSON gauging times %+v", doc.Gaugings)
 	}
 }
+
+// The comparison line counts the gaugings outside their bands among those
+// compared: of three gaugings, one lies beyond a short hydraulic table (no
+// rated discharge), one of the two compared departs by 20 % (outside a
+// good gauging's 5 % band, common practice as the convention states), so
+// "1 of 2 compared", not "1 of 3". Hand count.
+func TestFitComparisonCountsCompared(t *testing.T) {
+	at := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
+	gs := []gauged.Gauging{
+		{Time: at, Stage: 0.5, Discharge: 1, Quality: rating.Good},
+		{Time: at.AddDate(0, 1, 0), Stage: 0.8, Discharge: 2.4, Quality: rating.Good},
+		{Time: at.AddDate(0, 2, 0), Stage: 5, Discharge: 40, Quality: rating.Good},
+	}
+	nan := math.NaN()
+	rep := &gauged.Report{Units: rating.SI, Gaugings: gs, Comparison: &gauged.Comparison{Outside: 1, Residuals: []gauged.Residual{
+		{Fitted: 1, DeparturePercent: 0, Shift: 0}, {Fitted: 2, DeparturePercent: 20, Shift: 0.05, OutsideBand: true}, {Fitted: nan, DeparturePercent: nan, Shift: nan},
+	}}}
+	var b bytes.Buffer
+	if err := results.WriteFitText(&b, rep); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), ", 1 of 2 compared outside their quality bands") {
+		t.Errorf("text:\n%s", b.String())
+	}
+}
