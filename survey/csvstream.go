@@ -21,6 +21,10 @@ type csvStream struct {
 	long   []byte   // a line longer than the reader's buffer
 	fields [][]byte // the current record's fields
 	queue  []queued // records of a quoted chunk not yet returned
+	// meta holds the "# key: value" lines (see MetaKeys) above the first
+	// record; started is set once a record has been returned.
+	meta    map[string]string
+	started bool
 }
 
 // queued is a record parsed by encoding/csv from a quoted chunk.
@@ -79,6 +83,7 @@ func (c *csvStream) next() ([][]byte, int, error) {
 		if len(c.queue) > 0 {
 			q := c.queue[0]
 			c.queue = c.queue[1:]
+			c.started = true
 			return q.fields, q.line, nil
 		}
 		line, err := c.readLine()
@@ -89,6 +94,9 @@ func (c *csvStream) next() ([][]byte, int, error) {
 			return nil, 0, &ParseError{File: c.name, Err: err}
 		}
 		if len(line) == 0 || line[0] == '#' {
+			if !c.started && len(line) > 0 {
+				c.meta = addMetaLine(c.meta, string(bytes.TrimSpace(line)))
+			}
 			continue
 		}
 		if bytes.IndexByte(line, '"') >= 0 {
@@ -114,6 +122,7 @@ func (c *csvStream) next() ([][]byte, int, error) {
 			line = line[i+1:]
 		}
 		if !blankRec {
+			c.started = true
 			return c.fields, c.line, nil
 		}
 	}

@@ -65,18 +65,31 @@ func csvMeta(data []byte) map[string]string {
 			meta[MetaBuilt] = rest
 			continue
 		}
-		k, v, ok := strings.Cut(strings.TrimPrefix(line, "#"), ":")
-		if !ok {
-			continue
-		}
-		if key, known := metaKey(k); known {
-			if meta == nil {
-				meta = map[string]string{}
-			}
-			meta[key] = strings.TrimSpace(v)
-		}
+		meta = addMetaLine(meta, line)
 	}
 	return meta
+}
+
+// addMetaLine adds a "# key: value" comment line (trimmed, starting with
+// '#') to meta when its key is one of MetaKeys, making the map if nil, and
+// returns meta; other lines leave it as it is.
+func addMetaLine(meta map[string]string, line string) map[string]string {
+	k, v, ok := strings.Cut(strings.TrimPrefix(line, "#"), ":")
+	if !ok {
+		return meta
+	}
+	if key, known := metaKey(k); known {
+		if meta == nil {
+			meta = map[string]string{}
+		}
+		meta[key] = strings.TrimSpace(v)
+	}
+	return meta
+}
+
+// siteOf is the site metadata of a map of MetaKeys.
+func siteOf(m map[string]string) rating.Site {
+	return rating.Site{Name: m[MetaSite], ID: m[MetaSiteID], Surveyed: m[MetaSurveyed], Datum: m[MetaDatum], Crew: m[MetaCrew]}
 }
 
 // metaRow reads a sheet row above the header as a key and its value: the
@@ -102,6 +115,5 @@ func metaRow(rec []string) (key, value string, ok bool) {
 
 // Site returns the site metadata read above the table.
 func (t *Table) Site() rating.Site {
-	m := t.Meta
-	return rating.Site{Name: m[MetaSite], ID: m[MetaSiteID], Surveyed: m[MetaSurveyed], Datum: m[MetaDatum], Crew: m[MetaCrew]}
+	return siteOf(t.Meta)
 }

@@ -94,7 +94,8 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // RatingTablesFromTable reads one rating from a table with stage and
 // discharge columns (any table wetline writes of a rating, or one an office
 // keeps), or, when the table has a valid_from column, one rating per
-// valid_from time (a blank valid_from continues the rating above). Rows
+// valid_from time (a blank valid_from, or the same instant as the row
+// above, continues the rating above). Rows
 // must ascend in stage with discharge rising once above zero (see
 // gauged.RatingTable.Validate); periods must ascend in time. Units written
 // in the stage and discharge headers are reported in Units; an unknown
@@ -124,10 +125,16 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		if cv >= 0 {
 			if s := t.Cell(rec, cv); s != "" {
 				sec, err := cellTime(s, t.Sheet != "", t.Date1904, off)
-				if err != nil {
+				from := time.Unix(sec, 0).UTC()
+				switch {
+				case err != nil:
 					errs = append(errs, t.At(rec, cv, err))
+					groups = append(groups, ratingGroup{from: from, fromRec: rec})
+				case len(groups) > 0 && groups[len(groups)-1].from.Equal(from):
+					// The time of the row above, written again: the same period.
+				default:
+					groups = append(groups, ratingGroup{from: from, fromRec: rec})
 				}
-				groups = append(groups, ratingGroup{from: time.Unix(sec, 0).UTC(), fromRec: rec})
 			} else if len(groups) == 0 {
 				errs = append(errs, t.At(rec, cv, ErrValidFromBlank))
 				groups = append(groups, ratingGroup{fromRec: rec})

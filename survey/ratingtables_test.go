@@ -178,3 +178,28 @@ func TestRatingTableHeaderUnits(t *testing.T) {
 		}
 	}
 }
+
+// A valid_from written on every row of a period (long format) continues the
+// period above while it repeats: two periods, of three and two rows, the
+// second from 2024-06-01T00:00+10:00 = 2024-05-31T14:00Z (by hand). A time
+// written twice in two forms of one instant continues it too; a period
+// whose time comes back after another is still out of order.
+func TestParseRatingTablesLongFormat(t *testing.T) {
+	const long = "valid_from,stage,discharge\n" +
+		"2023-01-01,0.5,0\n2023-01-01,1.0,2\n2023-01-01T00:00Z,2.0,9\n" +
+		"2024-06-01T00:00+10:00,0.6,0\n2024-05-31T14:00Z,1.2,3\n"
+	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rs.Periods) != 2 || len(rs.Periods[0].Rating.Points) != 3 || len(rs.Periods[1].Rating.Points) != 2 ||
+		!rs.Periods[0].From.Equal(time.Date(2023, 1, 1, 0, 0, 0, 0, time.UTC)) ||
+		!rs.Periods[1].From.Equal(time.Date(2024, 5, 31, 14, 0, 0, 0, time.UTC)) {
+		t.Errorf("periods %+v", rs.Periods)
+	}
+	const back = "valid_from,stage,discharge\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n2024-01-01,0.5,0\n2024-01-01,1.0,2\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n"
+	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4}); !errors.Is(err, gauged.ErrPeriodOrder) ||
+		!strings.Contains(err.Error(), "r.csv:6:1") {
+		t.Errorf("a period come back: %v", err)
+	}
+}

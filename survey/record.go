@@ -10,6 +10,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"wetline/rating"
 	"wetline/rating/record"
 )
 
@@ -45,6 +46,9 @@ type StageRecord struct {
 	// Units is what the stage header says of the unit system
 	// ("stage (ft)"); nothing is converted.
 	Units UnitNote
+	// Site is the site metadata read above the header ("# site: ..." lines
+	// of CSV, key rows of a sheet; see MetaKeys).
+	Site rating.Site
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
 }
@@ -119,6 +123,7 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 		}
 		b.row(fields, line)
 	}
+	b.out.Site = siteOf(cs.meta)
 	return b.finish()
 }
 
@@ -153,6 +158,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	}
 	defer rows.Close()
 	var fields [][]byte
+	var meta map[string]string
 	for n := 1; rows.Next(); n++ {
 		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
@@ -162,6 +168,13 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 			continue
 		}
 		if b.header == nil {
+			if k, v, ok := metaRow(rec); ok {
+				if meta == nil {
+					meta = map[string]string{}
+				}
+				meta[k] = v
+				continue
+			}
 			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
 				return nil, err
 			}
@@ -176,6 +189,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	if err := rows.Error(); err != nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
 	}
+	b.out.Site = siteOf(meta)
 	return b.finish()
 }
 

@@ -13,6 +13,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"wetline/rating"
 	"wetline/rating/record"
 	"wetline/subdivide"
 )
@@ -280,5 +281,36 @@ func TestCSVStreamMatchesEncodingCSV(t *testing.T) {
 		"a\n\"1\n#2\"\n",
 	} {
 		checkStreamMatches(t, in)
+	}
+}
+
+// The site keys above a stage record's header are read as every table's
+// are: "# key: value" comment lines of CSV (a comment below the header is
+// no key), key rows of a sheet.
+func TestStageRecordSite(t *testing.T) {
+	const in = "# site: Fernbrook at Old Weir\n# Site-ID: FB-1\n# a note\ntime,stage\n# site: not this\n2024-05-01T00:00,1\n"
+	r, err := ParseStageRecord(strings.NewReader(in), "s.csv", StageRecordOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := (rating.Site{Name: "Fernbrook at Old Weir", ID: "FB-1"}); r.Site != want || r.Stages.Len() != 1 {
+		t.Errorf("site %+v, want %+v (%d readings)", r.Site, want, r.Stages.Len())
+	}
+	path := filepath.Join(t.TempDir(), "stage.xlsx")
+	wb := excelize.NewFile()
+	for i, row := range [][]any{{"site", "Fernbrook at Old Weir"}, {"crew:", "AB"}, {}, {"time", "stage"}, {"2024-05-01T00:00Z", 1.0}} {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		if err := wb.SetSheetRow("Sheet1", cell, &row); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := wb.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	if r, err = ReadStageRecord(path, StageRecordOptions{}); err != nil {
+		t.Fatal(err)
+	}
+	if want := (rating.Site{Name: "Fernbrook at Old Weir", Crew: "AB"}); r.Site != want {
+		t.Errorf("workbook site %+v, want %+v", r.Site, want)
 	}
 }

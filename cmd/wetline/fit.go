@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -168,6 +169,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		}
 		in.add(p.Inputs, p.Warnings)
 		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
+		opt.DatumGiven = f.fs != nil && f.fs.Changed("datum")
 		opt.Site = p.Survey.Section.Name
 		in.site = in.site.Merge(p.Site)
 	}
@@ -187,6 +189,9 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	}
 	rep, err := gauged.Analyze(gs.Gaugings, opt)
+	if errors.Is(err, gauged.ErrGaugingsOutsideSection) && !opt.DatumGiven {
+		return nil, fmt.Errorf("%s: %w: give --datum, the elevation of the gauge's zero in the survey's datum", path, err)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}

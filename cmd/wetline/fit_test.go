@@ -466,7 +466,7 @@ func TestFitWorkbookGaugings(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
 	}
-	if doc.Gaugings[0].Time != "2023-03-15T12:00:00" {
+	if doc.Gaugings[0].Time != "2023-03-15T12:00:00Z" {
 		t.Errorf("first time %q", doc.Gaugings[0].Time)
 	}
 	// Noise-free Q = 8·(h − 0.3)² (closed form).
@@ -524,5 +524,27 @@ func TestFitControlFlags(t *testing.T) {
 		if doc["floodplain_added"] != false {
 			t.Errorf("%q: a floodplain was added", tc.args)
 		}
+	}
+}
+
+// fit --section without --datum, every gauging below the section's lowest
+// point (the demo gaugings are gauge heights 0.46 to 2.96 m; the demo
+// section's ground lies near 100 m and above): refused with exit 1, the
+// ranges and a hint to give --datum. With the gaugings written as
+// elevations (gauge height + 100 m, by hand) the fit runs, and the datum
+// line says no datum was given instead of "+ 0 m (--datum)".
+func TestFitSectionWithoutDatum(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only")
+	if code != 1 || out != "" || !strings.Contains(errs, "no gauging lies within the section's stage range") || !strings.Contains(errs, "give --datum") {
+		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+	elev := filepath.Join(t.TempDir(), "elev.csv")
+	if err := os.WriteFile(elev, []byte("time,stage,discharge,quality\n2019-05-19T08:45,100.77,1.53,good\n2019-07-15T12:45,101.96,23.6,poor\n2019-09-11T09:30,102.74,50.7,fair\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code = runCLI(t, "fit", elev, "--section", fitDemoSurvey, "--slope", "0.0012", "--compare-only")
+	if code != 0 || !strings.Contains(out, "Gauge datum: none given, so gauge heights are read as the survey's elevations") || strings.Contains(out, "(--datum)") {
+		t.Errorf("elevations: exit %d\n%.600s\n%s", code, out, errs)
 	}
 }

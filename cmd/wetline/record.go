@@ -411,7 +411,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset)}
 	inputs = append([]string{path}, inputs...)
 	warnings = append(warnings, sr.Warnings...)
-	var site rating.Site
+	site := sr.Site // the stage record's, its blanks from the gaugings'
 	if f.gaugings != "" {
 		gs, err := survey.ReadGaugingsAt(f.gaugings, f.gaugingsSheet, time.Duration(f.offset))
 		if err != nil {
@@ -420,7 +420,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err := f.tableUnits(gs.Units, f.gaugings); err != nil {
 			return nil, err
 		}
-		site = gs.Site
+		site = site.Merge(gs.Site)
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)
 		warnings = append(warnings, gs.Warnings...)

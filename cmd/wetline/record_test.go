@@ -106,7 +106,7 @@ func TestRecordJSONContract(t *testing.T) {
 	for _, c := range []struct {
 		got, want []string
 	}{
-		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site"}},
+		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site", "units"}},
 		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags"}},
 		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table"}},
@@ -119,9 +119,15 @@ func TestRecordJSONContract(t *testing.T) {
 	var doc struct {
 		Caution string
 		Daily   []struct{ Mean *float64 }
+		Units   map[string]string
 	}
 	if err := json.Unmarshal(data, &doc); err != nil {
 		t.Fatal(err)
+	}
+	// The record's inputs name metres (stage (m)): SI, as shifts and fit
+	// state it.
+	if u := doc.Units; u["system"] != "si" || u["length"] != "m" || u["discharge"] != "m3/s" {
+		t.Errorf("units %v", u)
 	}
 	if !strings.Contains(doc.Caution, "provisional") || !strings.Contains(doc.Caution, "verify them against discharge measurements") {
 		t.Errorf("caution %q", doc.Caution)
@@ -335,7 +341,7 @@ func TestDemoRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution,site" {
+	if got := strings.Join(jsonKeys(t, data), ","); got != "unit,daily,ratings,shifts,warnings,caution,site,units" {
 		t.Errorf("keys %s", got)
 	}
 	var doc struct {
@@ -378,5 +384,32 @@ func checkPNGSize(t *testing.T, path string, w, h int) {
 	cfg, err := png.DecodeConfig(bytes.NewReader(data))
 	if err != nil || cfg.Width != w || cfg.Height != h {
 		t.Errorf("%s: %d×%d (%v), want %d×%d", path, cfg.Width, cfg.Height, err, w, h)
+	}
+}
+
+// The stage record's site keys name the site of the record, in its text
+// and JSON, as the other readers' do.
+func TestRecordStageSite(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	data, err := os.ReadFile("testdata/record/linear-stage.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	stage := filepath.Join(dir, "stage.csv")
+	if err := os.WriteFile(stage, append([]byte("# site: Fernbrook at Old Weir\n# site id: FB-1\n"), data...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := []string{"record", stage, "--rating", "testdata/record/linear.csv", "--max-gap", "6h"}
+	out, errs, code := runCLI(t, args...)
+	if code != 0 || !strings.Contains(out, "Site: Fernbrook at Old Weir (id FB-1)") {
+		t.Errorf("text: exit %d, no site line:\n%.600s\n%s", code, out, errs)
+	}
+	out, errs, code = runCLI(t, append(args, "--format", "json")...)
+	var doc struct {
+		Site *struct{ Name, ID string }
+	}
+	if code != 0 || json.Unmarshal([]byte(out), &doc) != nil || doc.Site == nil || doc.Site.Name != "Fernbrook at Old Weir" || doc.Site.ID != "FB-1" {
+		t.Errorf("JSON: exit %d, site %+v\n%s", code, doc.Site, errs)
 	}
 }

@@ -1,6 +1,7 @@
 package gauged_test
 
 import (
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -138,5 +139,24 @@ func TestCompareRectangle(t *testing.T) {
 	}
 	if r := cmp.Residuals[1]; r.OutsideBand || !(r.Shift < 0) || cmp.Outside != 1 {
 		t.Errorf("second: %+v, outside count %d", r, cmp.Outside)
+	}
+}
+
+// A section whose stage range holds none of the gaugings is refused
+// (ErrGaugingsOutsideSection): the compound section's ground runs from
+// elevation 10 to 13 m; gaugings at gauge heights 1.0 to 3.1 m with the
+// datum left at 0 are at elevations 1.0 to 3.1, all below its lowest
+// point. With the datum 9.5 they lie at 10.5 to 12.6 m, inside it.
+func TestAnalyzeGaugingsOutsideSection(t *testing.T) {
+	p := compound(t, 0.03, 0.05)
+	gs := sample(t, p, []float64{1.0, 1.6, 2.2, 2.7, 3.1})
+	c := rating.HydraulicCurve{Geometry: p, Options: rating.Options{Slope: 0.001}}
+	_, err := gauged.Analyze(gs, gauged.Options{Hydraulic: &c, CompareOnly: true})
+	if !errors.Is(err, gauged.ErrGaugingsOutsideSection) || !strings.Contains(err.Error(), "1 to 3.1") || !strings.Contains(err.Error(), "10 to 13") {
+		t.Errorf("datum 0: %v, want %v naming the ranges", err, gauged.ErrGaugingsOutsideSection)
+	}
+	c.Datum = 9.5
+	if _, err := gauged.Analyze(gs, gauged.Options{Hydraulic: &c, CompareOnly: true}); err != nil {
+		t.Errorf("datum 9.5: %v", err)
 	}
 }

@@ -24,6 +24,18 @@ type Comparison struct {
 	Warnings []string
 }
 
+// Compared counts the gaugings that have a rated discharge to be compared
+// with (the others lie beyond the hydraulic rating).
+func (c Comparison) Compared() int {
+	n := 0
+	for _, r := range c.Residuals {
+		if !math.IsNaN(r.Fitted) {
+			n++
+		}
+	}
+	return n
+}
+
 // Compare measures every gauging against the hydraulic rating c: the rated
 // discharge at its gauge height, the percent departure 100·(Q − Qr)/Qr,
 // the stage shift that would make the rating pass through it, and whether

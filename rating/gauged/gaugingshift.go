@@ -43,6 +43,11 @@ type GaugingShift struct {
 	// Residual is Shift − Applied (length unit): the shift the diagrams
 	// still miss.
 	Residual float64
+	// Lookup says how Rated was found at the gauge height, ShiftedLookup
+	// how Shifted was found at the effective gauge height (Extrapolated
+	// beyond the table's rows, ZeroFlow at or below the zero-flow stage;
+	// NoRating without a rating).
+	Lookup, ShiftedLookup Lookup
 }
 
 // Visit is a field visit: gaugings close together in time, and the shift
@@ -111,8 +116,11 @@ var ErrVisitGap = errors.New("the visit gap must not be negative")
 // gauging's quality band, the measured shift s with Q_rating(h + s) = Q
 // (what must be added to the gauge height for the rating to pass through
 // the gauging), the shift the history's diagrams already apply there and
-// the departure that remains. Gaugings are then grouped into visits, and
-// each visit proposes a shift diagram through its measured shifts.
+// the departure that remains. A gauging rated by extrapolation beyond the
+// table's rows, or at or below its zero-flow stage (rated 0), is marked
+// (Lookup, ShiftedLookup) and warned of. Gaugings are then grouped into
+// visits, and each visit proposes a shift diagram through its measured
+// shifts.
 //
 // References:
 //
@@ -139,15 +147,16 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 // checkOne measures one gauging.
 func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
 	nan := math.NaN()
-	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan}
+	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan,
+		Lookup: NoRating, ShiftedLookup: NoRating}
 	base := r.At(g.Time, g.Stage)
-	out.Period = base.Period
+	out.Period, out.ShiftedLookup = base.Period, base.Lookup
 	if base.Lookup == NoRating {
 		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.Format(time.RFC3339)))
 		return out
 	}
 	rt := r.periods[base.Period].rating
-	out.Rated, _ = rt.Discharge(g.Stage)
+	out.Rated, out.Lookup = rt.Discharge(g.Stage)
 	out.Departure, out.Outside = departure(g, out.Rated)
 	out.Applied = base.Shift
 	out.Shifted = base.Discharge
@@ -163,6 +172,20 @@ func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
 	}
 	if math.IsNaN(out.Rated) {
 		*warn = append(*warn, fmt.Sprintf("%s: gauge height %g is outside the rating %q", g.label(), g.Stage, rt.Name()))
+	}
+	// Where a lookup left the table's rows: at the gauge height, else at
+	// the effective one.
+	where := func(l Lookup) string {
+		if out.Lookup == l {
+			return fmt.Sprintf("gauge height %g", g.Stage)
+		}
+		return fmt.Sprintf("effective gauge height %g (shift %g applied)", base.Effective, base.Shift)
+	}
+	if out.Lookup == Extrapolated || out.ShiftedLookup == Extrapolated {
+		*warn = append(*warn, fmt.Sprintf("%s: %s is beyond the rows of the rating %q: rated by extrapolation", g.label(), where(Extrapolated), rt.Name()))
+	}
+	if out.Lookup == ZeroFlow || out.ShiftedLookup == ZeroFlow {
+		*warn = append(*warn, fmt.Sprintf("%s: %s is at or below the zero-flow stage %g of the rating %q: rated 0", g.label(), where(ZeroFlow), rt.table.ZeroFlow, rt.Name()))
 	}
 	return out
 }

@@ -237,3 +237,54 @@ func TestCheckStatesHistory(t *testing.T) {
 		t.Error("the check shares the rater's tables")
 	}
 }
+
+// TestCheckGaugingsMarksLookups: a gauging rated by extrapolation beyond the
+// table, and one at or below the zero-flow stage, say so (Lookup and
+// ShiftedLookup) and are warned of.
+//
+// Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2, extrapolation allowed:
+// above 0.7 Q = 2·((h − 0.2)/0.5)², carried on above 1.2, so at 1.4 m
+// Q = 2·(1.2/0.5)² = 11.52 (by hand); at 0.1 m (below e and below the
+// first row) Q = 0. The gauging at 0.1 m of 0.2 m³/s: the rating's stage
+// of 0.2 on its linear first interval Q = 4·(h − 0.2) is 0.25, a shift of
+// +0.15. The gauging at 0.9 m is in the table (rated 3.92, unmarked).
+func TestCheckGaugingsMarksLookups(t *testing.T) {
+	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true}
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	gs := []Gauging{
+		{Time: at, Stage: 1.4, Discharge: 12, Quality: rating.Good, Source: "g:2"},
+		{Time: at.Add(48 * time.Hour), Stage: 0.1, Discharge: 0.2, Quality: rating.Good, Source: "g:3"},
+		{Time: at.Add(96 * time.Hour), Stage: 0.9, Discharge: 3.92, Quality: rating.Good, Source: "g:4"},
+	}
+	c, err := compileHistory(t, History{Periods: []Period{{Rating: rt}}}).CheckGaugings(gs, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []struct {
+		rated        float64
+		lookup       Lookup
+		shift        float64
+		warnContains string
+	}{
+		{11.52, Extrapolated, math.NaN(), "g:2: gauge height 1.4 is beyond the rows of the rating \"r\": rated by extrapolation"},
+		{0, ZeroFlow, 0.15, "g:3: gauge height 0.1 is at or below the zero-flow stage 0.2 of the rating \"r\": rated 0"},
+		{3.92, InTable, math.NaN(), ""},
+	}
+	for i, w := range want {
+		g := c.Gaugings[i]
+		if math.Abs(g.Rated-w.rated) > ratingTol || g.Lookup != w.lookup || g.ShiftedLookup != w.lookup ||
+			!math.IsNaN(w.shift) && math.Abs(g.Shift-w.shift) > ratingTol {
+			t.Errorf("gauging %d: rated %v (%v, shifted %v), shift %v; want %v (%v), shift %v", i, g.Rated, g.Lookup, g.ShiftedLookup, g.Shift, w.rated, w.lookup, w.shift)
+		}
+		found := false
+		for _, s := range c.Warnings {
+			found = found || w.warnContains != "" && s == w.warnContains
+		}
+		if w.warnContains != "" && !found {
+			t.Errorf("gauging %d: no warning %q in %q", i, w.warnContains, c.Warnings)
+		}
+	}
+	if len(c.Warnings) != 2 {
+		t.Errorf("warnings %q", c.Warnings)
+	}
+}

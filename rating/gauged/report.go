@@ -20,6 +20,9 @@ type Options struct {
 	// Hydraulic is the section's hydraulic rating at gauge heights (its
 	// Datum relates gauge height to elevation); nil without a section.
 	Hydraulic *rating.HydraulicCurve
+	// DatumGiven says that Hydraulic's Datum was given, not left at 0
+	// (gauge heights read as the survey's elevations); reports say which.
+	DatumGiven bool
 	// HydraulicTable is a hydraulic rating given as a table at gauge
 	// heights (a section's or a step-backwater rating read from a file),
 	// used instead of a section: comparison, extension, prior and the
@@ -108,6 +111,8 @@ type Report struct {
 	Site  string
 	Units rating.Units
 	Datum float64
+	// DatumGiven is Options.DatumGiven.
+	DatumGiven bool
 	// Slope is the friction slope of the hydraulic rating (dimensionless;
 	// NaN without a section).
 	Slope float64
@@ -179,6 +184,11 @@ func (g Gauging) UncertaintyPercent() float64 {
 // (comparison only, the offset from the survey) and has none.
 var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating table")
 
+// ErrGaugingsOutsideSection is returned when no gauging lies within the
+// section's stage range: the datum relating gauge heights to the survey's
+// elevations is likely missing or wrong.
+var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's stage range")
+
 // Analyze compares, calibrates and fits gaugings as opt says: the
 // comparison with the hydraulic rating (a section's or a table's;
 // Compare, CompareTable), the n back-calculation (a section; Calibrate),
@@ -211,7 +221,7 @@ var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating tabl
 func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	ref := referenceOf(opt.Hydraulic, opt.HydraulicTable)
 	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
-		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN()}
+		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN(), DatumGiven: opt.DatumGiven}
 	if !ref.ok() && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
 	}
@@ -279,6 +289,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 	case ref.sec != nil:
 		c := ref.sec
 		r.Datum, r.Slope = c.Datum, c.Options.Slope
+		if err := withinSection(gs, *c); err != nil {
+			return err
+		}
 		r.HydraulicSource = "section"
 		if opt.Site != "" {
 			r.HydraulicSource += " " + opt.Site
@@ -468,4 +481,22 @@ func (r *Report) curve(c *rating.HydraulicCurve) error {
 		r.Curve = append(r.Curve, p)
 	}
 	return nil
+}
+
+// withinSection returns ErrGaugingsOutsideSection, with the ranges, when no
+// gauging's gauge height lies between the section's lowest and highest
+// points (c.Bottom() ≤ h ≤ c.Top(), gauge heights).
+func withinSection(gs []Gauging, c rating.HydraulicCurve) error {
+	if len(gs) == 0 {
+		return nil
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, g := range gs {
+		if g.Stage >= c.Bottom() && g.Stage <= c.Top() {
+			return nil
+		}
+		lo, hi = math.Min(lo, g.Stage), math.Max(hi, g.Stage)
+	}
+	return fmt.Errorf("%w: gauge heights %g to %g are elevations %g to %g at datum %g, and the section runs from %g to %g",
+		ErrGaugingsOutsideSection, lo, hi, lo+c.Datum, hi+c.Datum, c.Datum, c.Geometry.Bottom(), c.Geometry.Top())
 }

@@ -80,8 +80,12 @@ type DailyValue struct {
 	// Mean is the time-weighted mean discharge over the covered part of the
 	// day (discharge unit; NaN when nothing is covered).
 	Mean float64
-	// Min and Max are the least and greatest unit discharges read in the
-	// day, at MinTime and MaxTime (NaN and the zero time when none).
+	// Min and Max are the least and greatest discharges of the day, at
+	// MinTime and MaxTime (the earliest of equal ones; NaN and the zero
+	// time when none): of the unit discharges read in the day and of the
+	// discharges interpolated at its beginning and end midnights where the
+	// record is bridged across them (a reading at a midnight counts for
+	// both days it bounds).
 	Min, Max         float64
 	MinTime, MaxTime time.Time
 	// Coverage is the fraction of the day covered by bridged intervals with

@@ -63,15 +63,21 @@ func (c *counter) reading(u UnitValue) {
 	d := &c.days[c.day(u.Time)]
 	d.readings++
 	d.flags |= u.Flags &^ Gap
-	q := u.Discharge
+	d.extreme(u.Time, u.Discharge)
+}
+
+// extreme counts the discharge q at time t into the day's least and
+// greatest; of equal discharges the earliest time is kept. NaN counts for
+// nothing.
+func (d *dayAcc) extreme(t int64, q float64) {
 	if math.IsNaN(q) {
 		return
 	}
-	if math.IsNaN(d.min) || q < d.min {
-		d.min, d.minT = q, u.Time
+	if math.IsNaN(d.min) || q < d.min || q == d.min && t < d.minT {
+		d.min, d.minT = q, t
 	}
-	if math.IsNaN(d.max) || q > d.max {
-		d.max, d.maxT = q, u.Time
+	if math.IsNaN(d.max) || q > d.max || q == d.max && t < d.maxT {
+		d.max, d.maxT = q, t
 	}
 }
 
@@ -120,7 +126,9 @@ func (c *counter) gap(t0, t1 int64) {
 
 // segment adds the trapezoid from (ta, qa) to (tb, qb) to the days it
 // covers, split at midnights with the discharge linear in time. A segment
-// with no discharge at an end covers nothing.
+// with no discharge at an end covers nothing. The discharge at a midnight
+// the segment reaches counts into the least and greatest of the day it
+// ends and of the day it begins, at the midnight's time.
 func (c *counter) segment(ta int64, qa float64, tb int64, qb float64) {
 	if tb <= ta || math.IsNaN(qa) || math.IsNaN(qb) {
 		return
@@ -128,13 +136,21 @@ func (c *counter) segment(ta int64, qa float64, tb int64, qb float64) {
 	slope := (qb - qa) / float64(tb-ta)
 	s, qs := ta, qa
 	for d := c.day(ta); s < tb; d++ {
-		e := min(tb, c.first+int64(d+1)*daySeconds)
+		begin, end := c.first+int64(d)*daySeconds, c.first+int64(d+1)*daySeconds
+		e := min(tb, end)
 		qe := qb
 		if e < tb {
 			qe = qa + slope*float64(e-ta)
 		}
-		c.days[d].area += 0.5 * (qs + qe) * float64(e-s)
-		c.days[d].covered += e - s
+		day := &c.days[d]
+		day.area += 0.5 * (qs + qe) * float64(e-s)
+		day.covered += e - s
+		if s == begin {
+			day.extreme(s, qs)
+		}
+		if e == end {
+			day.extreme(e, qe)
+		}
 		s, qs = e, qe
 	}
 }

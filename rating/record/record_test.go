@@ -311,3 +311,48 @@ func TestFormatDuration(t *testing.T) {
 		}
 	}
 }
+
+// TestDailyExtremesAtMidnight: a day's least and greatest discharges
+// include the discharge interpolated at its midnights when the record is
+// bridged across them, at the midnight's time. Rating Q = 10·h, days in UTC.
+// Hand values:
+//
+//	rising across midnight: 06:00 h=1 (Q 10), 18:00 h=1 (Q 10), 30:00 h=3
+//	  (Q 30), bridged (gap 12 h ≤ 12 h): at 24:00 Q = 10 + (30−10)·6/12 = 20.
+//	  Day 1: min 10 at 06:00, max 20 at 24:00; day 2: min 20 at 00:00,
+//	  max 30 at 06:00.
+//	reading at midnight: 12:00 h=1 (Q 10), 24:00 h=2 (Q 20), 36:00 h=2. The
+//	  reading at 24:00 ends day 1: day 1 max 20 at 24:00; day 2 min = max =
+//	  20 at 00:00 (the earliest time of a tie).
+//	across a gap: 12:00 h=1, 30:00 h=3 with a 6 h maximum gap: nothing is
+//	  interpolated, day 1 min = max = 10 at 12:00, day 2 min = max = 30 at
+//	  06:00.
+func TestDailyExtremesAtMidnight(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	type ext struct {
+		min, max     float64
+		minAt, maxAt float64 // hours after 1 January 00:00 UTC
+	}
+	for _, tc := range []struct {
+		name   string
+		st     *Stages
+		maxGap time.Duration
+		want   []ext
+	}{
+		{"rising across midnight", stages(6, 1, 18, 1, 30, 3), 12 * time.Hour, []ext{{10, 20, 6, 24}, {20, 30, 24, 30}}},
+		{"reading at midnight", stages(12, 1, 24, 2, 36, 2), 12 * time.Hour, []ext{{10, 20, 12, 24}, {20, 20, 24, 24}}},
+		{"across a gap", stages(12, 1, 30, 3), 6 * time.Hour, []ext{{10, 10, 12, 12}, {30, 30, 30, 30}}},
+	} {
+		res := compute(t, tc.st, r, Options{MaxGap: tc.maxGap})
+		if len(res.Daily) != len(tc.want) {
+			t.Fatalf("%s: %d days, want %d", tc.name, len(res.Daily), len(tc.want))
+		}
+		for i, w := range tc.want {
+			d := res.Daily[i]
+			if math.Abs(d.Min-w.min) > meanTol || math.Abs(d.Max-w.max) > meanTol ||
+				d.MinTime.Unix() != at(w.minAt) || d.MaxTime.Unix() != at(w.maxAt) {
+				t.Errorf("%s: day %d: min %v at %v, max %v at %v; want %+v", tc.name, i+1, d.Min, d.MinTime, d.Max, d.MaxTime, w)
+			}
+		}
+	}
+}

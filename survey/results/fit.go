@@ -30,8 +30,10 @@ func ComparisonColumns() []string {
 		"outside_band", "factor_on_n", "n", "source", "uncertainty_percent", "exclude"}
 }
 
-// GaugingTimeLayout is how gauging times are written.
-const GaugingTimeLayout = "2006-01-02T15:04:05"
+// GaugingTimeLayout is how gauging times are written: RFC 3339 with the
+// gauging's own UTC offset (Z for UTC), the form --period and --exclude
+// take, so that times of different offsets stay comparable.
+const GaugingTimeLayout = time.RFC3339
 
 // WriteFitCSV writes the table of a fit (FitTableColumns()), or, in
 // comparison-only mode, the gaugings against the hydraulic rating
@@ -508,8 +510,10 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	p("%s: %d measurements, %s units\n", title, len(r.Gaugings), u)
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
-	case r.Hydraulic != nil:
+	case r.Hydraulic != nil && r.DatumGiven:
 		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating at slope %g\n", rating.DatumTerm(r.Datum), L, r.Slope)
+	case r.Hydraulic != nil:
+		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating at slope %g\n", r.Slope)
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:
@@ -646,7 +650,7 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 // writeGaugingRows writes every gauging with its departures.
 func writeGaugingRows(p printer, r *gauged.Report) {
 	p("\nGaugings (U: uncertainty at 95 %%; departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its quality band; x left out of the fit):\n")
-	p("  %-19s %9s %10s %-9s %5s", "time", "stage", "discharge", "quality", "U %")
+	p("  %-25s %9s %10s %-9s %5s", "time", "stage", "discharge", "quality", "U %")
 	if r.Fit != nil {
 		p(" %10s %8s %8s", "fitted", "dep. %", "shift")
 	}
@@ -659,7 +663,7 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 	p("\n")
 	var reasons []string
 	for i, g := range r.Gaugings {
-		p("  %-19s %9.3f %10s %-9s %5s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
+		p("  %-25s %9.3f %10s %-9s %5s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
 		reason := ""
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
@@ -686,8 +690,8 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		p("  x %s\n", s)
 	}
 	if c := r.Comparison; c != nil {
-		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d outside their quality bands\n",
-			fixed(c.MeanLogDeparturePercent, 1), c.Outside, len(c.Residuals))
+		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d compared outside their quality bands\n",
+			fixed(c.MeanLogDeparturePercent, 1), c.Outside, c.Compared())
 	}
 }
 

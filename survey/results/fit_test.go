@@ -174,7 +174,7 @@ func TestWriteFitTextStates(t *testing.T) {
 		}
 		out := buf.String()
 		for _, w := range []string{"Uncertainty convention: ", "poor 12 %", "runs ", "p = ", "Johnson's three-point check",
-			"x 2024-04-01T09:00:00: weed on the control", "param. 2.5%", "total 97.5%", "caution: "} {
+			"x 2024-04-01T09:00:00Z: weed on the control", "param. 2.5%", "total 97.5%", "caution: "} {
 			if !strings.Contains(out, w) {
 				t.Errorf("%s: text lacks %q", rep.Method, w)
 			}
@@ -241,5 +241,75 @@ func TestWriteFitWorkbookBandsPosterior(t *testing.T) {
 	}
 	if !slices.Contains(g[0], "exclude") || !slices.Contains(g[0], "uncertainty (%)") || !slices.Contains(g[0], "excluded reason") {
 		t.Errorf("gaugings header %q", g[0])
+	}
+}
+
+// Every gauging time of a fit is written with its UTC offset, as RFC 3339
+// gives it (Z for UTC), in the text (the rows and the reasons of those
+// left out) and in the JSON, so that what is shown can be given back to
+// --exclude. Gaugings of Q = 8·(h − 0.3)^2 (invented), the fourth at
+// 2024-03-05T09:00+10:00, written 2024-03-05T09:00:00+10:00 (RFC 3339,
+// seconds included) and left out by its text; the others at 09:00 UTC on
+// the first of each month, the first written 2024-01-01T09:00:00Z.
+func TestFitGaugingTimesCarryOffset(t *testing.T) {
+	east := time.FixedZone("", 10*3600)
+	var gs []gauged.Gauging
+	for i := range 10 {
+		h := 0.5 + 0.1*float64(i)
+		gs = append(gs, gauged.Gauging{Time: time.Date(2024, time.Month(1+i), 1, 9, 0, 0, 0, time.UTC), Stage: h,
+			Discharge: 8 * math.Pow(h-0.3, 2) * (1 + 0.02*math.Sin(float64(7*i))), Quality: rating.Good})
+	}
+	gs[3].Time, gs[3].Exclude = time.Date(2024, 3, 5, 9, 0, 0, 0, east), "weed on the control"
+	rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text, js bytes.Buffer
+	if err := results.WriteFitText(&text, rep); err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []string{"  2024-03-05T09:00:00+10:00 ", "  2024-01-01T09:00:00Z ", "x 2024-03-05T09:00:00+10:00: weed on the control"} {
+		if !strings.Contains(text.String(), w) {
+			t.Errorf("text lacks %q:\n%s", w, text.String())
+		}
+	}
+	if err := results.WriteFitJSON(&js, rep); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Gaugings []struct {
+			Time string `json:"time"`
+		} `json:"gaugings"`
+	}
+	if err := json.Unmarshal(js.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Gaugings) != len(gs) || doc.Gaugings[0].Time != "2024-01-01T09:00:00Z" || doc.Gaugings[3].Time != "2024-03-05T09:00:00+10:00" {
+		t.Errorf("JSON gauging times %+v", doc.Gaugings)
+	}
+}
+
+// The comparison line counts the gaugings outside their bands among those
+// compared: of three gaugings, one lies beyond a short hydraulic table (no
+// rated discharge), one of the two compared departs by 20 % (outside a
+// good gauging's 5 % band, common practice as the convention states), so
+// "1 of 2 compared", not "1 of 3". Hand count.
+func TestFitComparisonCountsCompared(t *testing.T) {
+	at := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
+	gs := []gauged.Gauging{
+		{Time: at, Stage: 0.5, Discharge: 1, Quality: rating.Good},
+		{Time: at.AddDate(0, 1, 0), Stage: 0.8, Discharge: 2.4, Quality: rating.Good},
+		{Time: at.AddDate(0, 2, 0), Stage: 5, Discharge: 40, Quality: rating.Good},
+	}
+	nan := math.NaN()
+	rep := &gauged.Report{Units: rating.SI, Gaugings: gs, Comparison: &gauged.Comparison{Outside: 1, Residuals: []gauged.Residual{
+		{Fitted: 1, DeparturePercent: 0, Shift: 0}, {Fitted: 2, DeparturePercent: 20, Shift: 0.05, OutsideBand: true}, {Fitted: nan, DeparturePercent: nan, Shift: nan},
+	}}}
+	var b bytes.Buffer
+	if err := results.WriteFitText(&b, rep); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), ", 1 of 2 compared outside their quality bands") {
+		t.Errorf("text:\n%s", b.String())
 	}
 }

@@ -246,7 +246,7 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 //
 //	{"unit": [{"time", "stage", "shift", "effective_stage", "discharge", "flags"}],
 //	 "daily": [{"date", "mean", "min", "max", "max_time", "coverage", "flags"}],
-//	 "ratings", "shifts", "warnings", "caution"}
+//	 "ratings", "shifts", "warnings", "caution", "site", "units"}
 //
 // unit or daily is null when the table was not asked for. Times are ISO
 // 8601 with the record's offset and flags lists of words; undefined values
@@ -254,7 +254,9 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 // at an open end —, rating, zero_flow, highest_gauging, extrapolate,
 // readings, table) and shifts the diagrams (time, rating_period, abrupt,
 // taper, points, source). caution is the project's caution and the note
-// that a computed record is provisional. Unit and daily rows are written
+// that a computed record is provisional; site is null when nothing is
+// known of it; units names the unit system and its units (as shifts and
+// fit give them; nothing is converted). Unit and daily rows are written
 // one at a time, so memory does not grow with the record; stages and
 // shifts have LengthDecimals decimals, discharges six significant digits.
 func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error {
@@ -291,6 +293,7 @@ func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error
 		{"warnings", nonNil(res.Warnings)},
 		{"caution", recordCaution(record.ProvisionalNote)},
 		{"site", siteJSON(res.Provenance.Site)},
+		{"units", UnitNames(res.UnitSystem)},
 	})
 }
 
@@ -490,7 +493,7 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 func writeDailyText(rw *rowWriter, res *record.Result) {
 	bw := rw.w
 	Q := res.UnitSystem.Discharge()
-	fmt.Fprintf(bw, "\nDaily values (discharge in %s: time-weighted mean of the unit values by the trapezoidal rule, least and greatest reading; coverage = fraction of the day bridged):\n", Q)
+	fmt.Fprintf(bw, "\nDaily values (discharge in %s: time-weighted mean of the unit values by the trapezoidal rule, least and greatest of the readings and of the discharge at a bridged midnight; coverage = fraction of the day bridged):\n", Q)
 	fmt.Fprintf(bw, "  %-10s %10s %10s %10s %-25s %8s  %s\n", "date", "mean", "min", "max", "max time", "coverage", "flags")
 	for _, d := range res.Daily {
 		mt := "-"

@@ -332,6 +332,7 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 		{Name: "outside_band_shifted"},
 		{Name: "visit", Format: "0"},
 		{Name: "source", Width: textWidth, Wrap: true},
+		{Name: "flags", Width: 12},
 	})
 	if err != nil {
 		return err
@@ -343,7 +344,7 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 			period = g.Period + 1
 		}
 		if err := s.Row(wallClock(g.Time, z), g.Stage, g.Discharge, g.Quality.String(), g.Note, period, g.Rated, g.Departure, yes(g.Outside),
-			g.Shift, g.Applied, g.Residual, g.Shifted, g.ShiftedDeparture, yes(g.OutsideShifted), visit[i]+1, g.Source); err != nil {
+			g.Shift, g.Applied, g.Residual, g.Shifted, g.ShiftedDeparture, yes(g.OutsideShifted), visit[i]+1, g.Source, gaugingFlags(g).String()); err != nil {
 			return err
 		}
 	}

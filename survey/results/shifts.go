@@ -18,7 +18,21 @@ import (
 // after them.
 func ShiftGaugingColumns() []string {
 	return []string{"time", "stage", "discharge", "quality", "rating_period", "rated", "departure_percent", "outside_band",
-		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source"}
+		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source", "flags"}
+}
+
+// gaugingFlags marks a gauging rated by extrapolation beyond its rating's
+// rows, or at or below the zero-flow stage, on the base or the shifted
+// rating, with the record's flags.
+func gaugingFlags(g gauged.GaugingShift) record.Flag {
+	var f record.Flag
+	if g.Lookup == gauged.Extrapolated || g.ShiftedLookup == gauged.Extrapolated {
+		f |= record.Extrapolated
+	}
+	if g.Lookup == gauged.ZeroFlow || g.ShiftedLookup == gauged.ZeroFlow {
+		f |= record.BelowZeroFlow
+	}
+	return f
 }
 
 // shiftInfoOf lays out a check's periods and diagrams.
@@ -32,7 +46,8 @@ func shiftInfoOf(c *gauged.ShiftCheck) ([]periodInfo, []shiftInfo) {
 // whether it lies outside the gauging's quality band; the measured shift,
 // the shift the diagrams apply and the residual between them; the
 // discharge of the shifted rating and the departure from it; the visit
-// (1-based). Times are ISO 8601 with the check's offset; undefined values
+// (1-based); the flags (extrapolated, below_zero_flow: how the base or the
+// shifted rating found its discharge), space-separated. Times are ISO 8601 with the check's offset; undefined values
 // are empty cells.
 func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 	bw := bufio.NewWriter(w)
@@ -47,7 +62,8 @@ func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 		writeRecord(bw, []string{g.Time.In(z).Format(RecordTimeLayout), FormatLength(g.Stage), FormatFloat(g.Discharge), g.Quality.String(),
 			period, FormatFloat(g.Rated), FormatFloat(g.Departure), fmt.Sprint(g.Outside),
 			FormatLength(g.Shift), FormatLength(g.Applied), FormatLength(g.Residual),
-			FormatFloat(g.Shifted), FormatFloat(g.ShiftedDeparture), fmt.Sprint(g.OutsideShifted), fmt.Sprint(visit[i] + 1), fitCSVText(g.Source)})
+			FormatFloat(g.Shifted), FormatFloat(g.ShiftedDeparture), fmt.Sprint(g.OutsideShifted), fmt.Sprint(visit[i] + 1), fitCSVText(g.Source),
+			gaugingFlags(g).String()})
 	}
 	return bw.Flush()
 }
@@ -77,22 +93,23 @@ func WriteProposedShifts(w io.Writer, c *gauged.ShiftCheck) error {
 }
 
 type jsonShiftGauging struct {
-	Time             string `json:"time"`
-	Stage            Float  `json:"stage"`
-	Discharge        Float  `json:"discharge"`
-	Quality          string `json:"quality"`
-	RatingPeriod     *int   `json:"rating_period"`
-	Rated            Float  `json:"rated"`
-	Departure        Float  `json:"departure_percent"`
-	Outside          bool   `json:"outside_band"`
-	Shift            Float  `json:"shift"`
-	Applied          Float  `json:"applied_shift"`
-	Residual         Float  `json:"residual_shift"`
-	Shifted          Float  `json:"shifted"`
-	ShiftedDeparture Float  `json:"shifted_departure_percent"`
-	OutsideShifted   bool   `json:"outside_band_shifted"`
-	Visit            int    `json:"visit"`
-	Source           string `json:"source"`
+	Time             string   `json:"time"`
+	Stage            Float    `json:"stage"`
+	Discharge        Float    `json:"discharge"`
+	Quality          string   `json:"quality"`
+	RatingPeriod     *int     `json:"rating_period"`
+	Rated            Float    `json:"rated"`
+	Departure        Float    `json:"departure_percent"`
+	Outside          bool     `json:"outside_band"`
+	Shift            Float    `json:"shift"`
+	Applied          Float    `json:"applied_shift"`
+	Residual         Float    `json:"residual_shift"`
+	Shifted          Float    `json:"shifted"`
+	ShiftedDeparture Float    `json:"shifted_departure_percent"`
+	OutsideShifted   bool     `json:"outside_band_shifted"`
+	Visit            int      `json:"visit"`
+	Source           string   `json:"source"`
+	Flags            []string `json:"flags"`
 }
 
 type jsonVisit struct {
@@ -107,7 +124,7 @@ type jsonVisit struct {
 //	{"units", "gaugings": [{"time", "stage", "discharge", "quality",
 //	  "rating_period", "rated", "departure_percent", "outside_band", "shift",
 //	  "applied_shift", "residual_shift", "shifted", "shifted_departure_percent",
-//	  "outside_band_shifted", "visit", "source"}],
+//	  "outside_band_shifted", "visit", "source", "flags"}],
 //	 "visits": [{"visit", "time", "gaugings", "proposal": [{"stage", "shift"}]}],
 //	 "ratings", "shifts", "warnings", "caution"}
 //
@@ -133,7 +150,7 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
 			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
 			Residual: Float(g.Residual), Shifted: Float(g.Shifted), ShiftedDeparture: Float(g.ShiftedDeparture), OutsideShifted: g.OutsideShifted,
-			Visit: visit[i] + 1, Source: g.Source}
+			Visit: visit[i] + 1, Source: g.Source, Flags: append([]string{}, strings.Fields(gaugingFlags(g).String())...)}
 		if g.Period >= 0 {
 			p := g.Period + 1
 			jg.RatingPeriod = &p
@@ -173,15 +190,15 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	writeHistoryText(bw, ps, ss, z, u)
 	fmt.Fprintf(bw, "\nGaugings (departure = 100·(measured − rated)/rated on the base rating; shift = what to add to the gauge height for the rating to pass through the gauging;\n")
 	fmt.Fprintf(bw, "applied = the shift the diagrams give there; residual = shift − applied; * outside the gauging's quality band):\n")
-	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %3s %10s %7s %8s %8s %8s %8s\n", "time", "stage", "discharge", "quality", "per", "rated", "dep. %", "shift", "applied", "residual", "shifted%")
+	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %3s %10s %7s %8s %8s %8s %8s %s\n", "time", "stage", "discharge", "quality", "per", "rated", "dep. %", "shift", "applied", "residual", "shifted%", "flags")
 	for _, g := range c.Gaugings {
 		period := "-"
 		if g.Period >= 0 {
 			period = fmt.Sprint(g.Period + 1)
 		}
-		line := fmt.Sprintf("  %-25s %8s %10s %-9s %3s %10s %6s%s %8s %8s %8s %7s%s", g.Time.In(z).Format(RecordTimeLayout), fixed(g.Stage, 3),
+		line := fmt.Sprintf("  %-25s %8s %10s %-9s %3s %10s %6s%s %8s %8s %8s %7s%s %s", g.Time.In(z).Format(RecordTimeLayout), fixed(g.Stage, 3),
 			sig(g.Discharge, 4), g.Quality, period, sig(g.Rated, 4), fixed(g.Departure, 1), fitStar(g.Outside),
-			fixed(g.Shift, 3), fixed(g.Applied, 3), fixed(g.Residual, 3), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted))
+			fixed(g.Shift, 3), fixed(g.Applied, 3), fixed(g.Residual, 3), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted), gaugingFlags(g))
 		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 	}
 	fmt.Fprintf(bw, "\nField visits and the shift diagram each proposes (through its measured shifts; write them with --proposed FILE, edit, and apply them with --shifts FILE):\n")
