@@ -192,6 +192,10 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if errors.Is(err, gauged.ErrGaugingsOutsideSection) && !opt.DatumGiven {
 		return nil, fmt.Errorf("%s: %w: give --datum, the elevation of the gauge's zero in the survey's datum", path, err)
 	}
+	var below *gauged.BelowZeroError
+	if errors.As(err, &below) {
+		return nil, f.belowZeroFlow(below)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -458,6 +462,19 @@ func (f *fitFlags) zeroFlowOption(opt *gauged.Options) error {
 		opt.Controls.OffsetFixed, opt.Controls.Offset, opt.Controls.OffsetSource = true, v, "given"
 	}
 	return nil
+}
+
+// belowZeroFlow words a gauge height of zero flow from --zero-flow that
+// lies at or above gaugings to be fitted: one line naming the flag, its
+// value, the lowest gauging concerned and why.
+func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
+	L := e.Units.Length()
+	what := fmt.Sprintf("--zero-flow %s", strings.TrimSpace(f.zeroFlow))
+	if strings.EqualFold(strings.TrimSpace(f.zeroFlow), "control") {
+		what = fmt.Sprintf("--zero-flow control (%s %s from %s)", strconv.FormatFloat(e.ZeroFlow, 'g', 6, 64), L, e.Source)
+	}
+	return fmt.Errorf("fit: %s: %d of the %d gaugings used, the lowest %s at %s %s: %w; give a value below every gauging fitted, or auto to fit it",
+		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
 }
 
 // selection reads --exclude and --period.

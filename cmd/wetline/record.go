@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -92,6 +93,16 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 		return spec, usagef("%s: --rating %s: no file before the @", hf.cmd, s)
 	}
 	return spec, nil
+}
+
+// zeroFlowAbove names --zero-flow in an error of a rating table read with
+// the gauge height of zero flow that flag gave, when that height lies at
+// or above a row with flow; other errors are returned as they are.
+func zeroFlowAbove(cmd string, opt survey.RatingTableOptions, err error) error {
+	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) {
+		return err
+	}
+	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64), err)
 }
 
 // perRating returns value k of a list flag given once for all ratings or
@@ -185,7 +196,7 @@ func (hf *historyFlags) ratingPeriods(k int, s string, d *unitsDecided) ([]dated
 	opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, k)
 	rt, err := survey.ReadRatingTables(spec.path, opt)
 	if err != nil {
-		return nil, "", nil, err
+		return nil, "", nil, zeroFlowAbove(hf.cmd, opt, err)
 	}
 	if err := d.take(rt.Units, spec.path); err != nil {
 		return nil, "", nil, err

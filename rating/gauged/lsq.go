@@ -274,7 +274,7 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	}
 	if opt.OffsetFixed {
 		m.base[m.iB()] = opt.Offset
-		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+		if err := aboveOffset(gs, d, opt); err != nil {
 			return nil, nil, nil, err
 		}
 	} else {
@@ -307,17 +307,51 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	return p, reasons, warn, nil
 }
 
-// aboveOffset returns an ErrBelowZero error naming every used gauging at
-// or below a fixed offset.
-func aboveOffset(gs []Gauging, d *data, offset float64) error {
-	var errs []error
+// BelowZeroError reports gaugings used by a fit at or below a first
+// offset held fixed (ControlOptions.OffsetFixed): a rating
+// Q = A·(h − e)^C has no discharge there. It wraps ErrBelowZero.
+type BelowZeroError struct {
+	// ZeroFlow is the offset held fixed, the gauge height of zero flow
+	// (length unit of Units), and Source says where it came from.
+	ZeroFlow float64
+	Source   string
+	// Count is how many of the Used gaugings lie at or below it.
+	Count, Used int
+	// Lowest names the lowest of them (its source, else its stage) and
+	// Stage is its gauge height (length unit).
+	Lowest string
+	Stage  float64
+	// Units label the values.
+	Units rating.Units
+}
+
+func (e *BelowZeroError) Error() string {
+	L := e.Units.Length()
+	return fmt.Sprintf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
+		"a rating has no discharge there (%v)", e.Count, e.Used, gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
+}
+
+func (e *BelowZeroError) Unwrap() error { return ErrBelowZero }
+
+// aboveOffset returns a *BelowZeroError naming the lowest of the used
+// gaugings at or below a fixed offset, or nil when none is.
+func aboveOffset(gs []Gauging, d *data, opt ControlOptions) error {
+	e := &BelowZeroError{ZeroFlow: opt.Offset, Source: opt.OffsetSource, Used: d.n(), Units: opt.Units}
+	if e.Source == "" {
+		e.Source = "given"
+	}
 	for i, h := range d.h {
-		if !(h > offset) {
-			g := gs[d.index[i]]
-			errs = append(errs, fmt.Errorf("%s: stage %g: %w %g", g.label(), h, ErrBelowZero, offset))
+		if !(h > opt.Offset) {
+			if e.Count == 0 {
+				e.Lowest, e.Stage = gs[d.index[i]].label(), h
+			}
+			e.Count++
 		}
 	}
-	return errors.Join(errs...)
+	if e.Count == 0 {
+		return nil
+	}
+	return e
 }
 
 // scales returns the scale of each free parameter: 1 for ln A and C, the
@@ -825,3 +859,4 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 }
+
