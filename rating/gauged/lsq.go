@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"time"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -850,6 +851,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
 		}
 	}
+	f.Warnings = append(f.Warnings, zeroFlowConflicts(gs, f.Rating.Controls[0].B, f.OffsetSource, f.Units)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -860,3 +862,33 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 }
 
+// zeroFlowConflicts returns a warning for each gauging that contradicts
+// the gauge height of zero flow e, the first control's offset (length
+// unit of u; source says where it came from, as "fitted"): zero
+// discharge measured above e, where the rating has flow, or discharge
+// measured at or below e, where it has none. A zero discharge counts as
+// above e only where the message would write the two heights apart
+// (ghDecimals); gaugings whose stage or discharge is
+// not a finite number are passed over.
+func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units) []string {
+	L, Q := u.Length(), u.Discharge()
+	var out []string
+	for _, g := range gs {
+		if !finite(g.Stage) || !finite(g.Discharge) {
+			continue
+		}
+		name := g.label()
+		if !g.Time.IsZero() {
+			name += " (" + g.Time.Format(time.RFC3339) + ")"
+		}
+		switch {
+		case g.Discharge == 0 && g.Stage > e && gh(g.Stage) != gh(e):
+			out = append(out, fmt.Sprintf("%s: zero discharge measured at gauge height %s %s, above the gauge height of zero flow e = %s %s (%s), where the rating has flow: "+
+				"check the gauging, and whether the control had changed", name, gh(g.Stage), L, gh(e), L, source))
+		case g.Discharge > 0 && !(g.Stage > e):
+			out = append(out, fmt.Sprintf("%s: discharge %.4g %s measured at gauge height %s %s, at or below the gauge height of zero flow e = %s %s (%s), where the rating has none: "+
+				"check the gauging, and whether the control had changed", name, g.Discharge, Q, gh(g.Stage), L, gh(e), L, source))
+		}
+	}
+	return out
+}
