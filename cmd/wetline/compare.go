@@ -163,7 +163,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		}
 		rt, err := survey.ReadRatingTables(in.path, opt)
 		if err != nil {
-			return err
+			return zeroFlowAbove("compare", opt, err)
 		}
 		if err := d.take(rt.Units, in.path); err != nil {
 			return err

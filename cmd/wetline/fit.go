@@ -152,6 +152,9 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if err := d.take(gs.Units, path); err != nil {
 		return nil, err
 	}
+	if err := f.periodHolds(path, gs.Gaugings, opt); err != nil {
+		return nil, err
+	}
 	var table *gauged.TableRating
 	var tableWarnings []string
 	if f.hydraulicTable != "" {
@@ -191,6 +194,10 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	rep, err := gauged.Analyze(gs.Gaugings, opt)
 	if errors.Is(err, gauged.ErrGaugingsOutsideSection) && !opt.DatumGiven {
 		return nil, fmt.Errorf("%s: %w: give --datum, the elevation of the gauge's zero in the survey's datum", path, err)
+	}
+	var below *gauged.BelowZeroError
+	if errors.As(err, &below) {
+		return nil, f.belowZeroFlow(below)
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
@@ -289,7 +296,7 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	if err := f.zeroFlowOption(&opt); err != nil {
 		return opt, err
 	}
-	sel, err := f.selection()
+	sel, err := f.selection(fs.Changed("period"))
 	if err != nil {
 		return opt, err
 	}
@@ -460,8 +467,56 @@ func (f *fitFlags) zeroFlowOption(opt *gauged.Options) error {
 	return nil
 }
 
-// selection reads --exclude and --period.
-func (f *fitFlags) selection() (gauged.Selection, error) {
+// periodHolds checks that the rating period of --period holds at least
+// one of the gaugings read from path, when a fit is to be made: a period
+// holding none is an error naming the flag, its value and the times the
+// gaugings span.
+func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Options) error {
+	sel := opt.Controls.Selection
+	if opt.CompareOnly || (sel.From.IsZero() && sel.To.IsZero()) {
+		return nil
+	}
+	period := gauged.Selection{From: sel.From, To: sel.To}
+	var first, last time.Time
+	for _, g := range gs {
+		switch period.Reason(g) {
+		case gauged.ReasonBeforePeriod, gauged.ReasonAfterPeriod:
+		default:
+			return nil
+		}
+		if g.Time.IsZero() {
+			continue
+		}
+		if first.IsZero() || g.Time.Before(first) {
+			first = g.Time
+		}
+		if last.IsZero() || g.Time.After(last) {
+			last = g.Time
+		}
+	}
+	span := "none of them has a time"
+	if !first.IsZero() {
+		span = fmt.Sprintf("they run from %s to %s", first.Format(time.RFC3339), last.Format(time.RFC3339))
+	}
+	return fmt.Errorf("fit: --period %s: none of the %d gaugings of %s falls in it (%s): %w", strings.TrimSpace(f.period), len(gs), path, span, gauged.ErrFewGaugings)
+}
+
+// belowZeroFlow words a gauge height of zero flow from --zero-flow that
+// lies at or above gaugings to be fitted: one line naming the flag, its
+// value, the lowest gauging concerned and why.
+func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
+	L := e.Units.Length()
+	what := fmt.Sprintf("--zero-flow %s", strings.TrimSpace(f.zeroFlow))
+	if strings.EqualFold(strings.TrimSpace(f.zeroFlow), "control") {
+		what = fmt.Sprintf("--zero-flow control (%s %s from %s)", strconv.FormatFloat(e.ZeroFlow, 'g', 6, 64), L, e.Source)
+	}
+	return fmt.Errorf("fit: %s: %d of the %d gaugings used, the lowest %s at %s %s: %w; give a value below every gauging fitted, or auto to fit it",
+		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
+}
+
+// selection reads --exclude and --period; given says --period was on the
+// command line, where an empty value is refused.
+func (f *fitFlags) selection(given bool) (gauged.Selection, error) {
 	var sel gauged.Selection
 	if f.exclude != "" {
 		for _, s := range strings.Split(f.exclude, ",") {
@@ -472,10 +527,16 @@ func (f *fitFlags) selection() (gauged.Selection, error) {
 			sel.Exclude = append(sel.Exclude, t)
 		}
 	}
-	if f.period == "" {
+	if strings.TrimSpace(f.period) == "" {
+		if given {
+			return sel, usagef("fit: --period is empty: want FROM..TO (either end may be left open), or leave --period out to fit every gauging")
+		}
 		return sel, nil
 	}
 	from, to, ok := strings.Cut(f.period, "..")
+	if ok && strings.TrimSpace(from) == "" && strings.TrimSpace(to) == "" {
+		return sel, usagef("fit: --period %q has neither end: want FROM..TO with at least one of them, or leave --period out to fit every gauging", f.period)
+	}
 	if !ok {
 		return sel, usagef("fit: --period %q: want FROM..TO (either end may be left open)", f.period)
 	}

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -49,8 +50,8 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
 		"or none@TIME for a period without a rating; repeat for each rating period")
 	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first)")
-	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order (log-linear in h − e between rows)")
-	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating (default: from an extrapolated column)")
+	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows)")
+	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating, where the periods without a rating (none@TIME) may be left out (default: from an extrapolated column)")
 	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
 	fs.StringVar(&hf.shifts, "shifts", "", "shift diagrams FILE (time, stage, shift columns; optional taper and abrupt)")
@@ -94,6 +95,16 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 	return spec, nil
 }
 
+// zeroFlowAbove names --zero-flow in an error of a rating table read with
+// the gauge height of zero flow that flag gave, when that height lies at
+// or above a row with flow; other errors are returned as they are.
+func zeroFlowAbove(cmd string, opt survey.RatingTableOptions, err error) error {
+	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) {
+		return err
+	}
+	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64), err)
+}
+
 // perRating returns value k of a list flag given once for all ratings or
 // once per rating.
 func perRating(v numbers, k int) (float64, bool) {
@@ -128,20 +139,51 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	if len(hf.ratings) == 0 {
 		return h, nil, nil, usagef("%s: give the rating with --rating FILE (and --rating FILE@TIME for each later rating period)", hf.cmd)
 	}
+	specs := make([]ratingSpec, len(hf.ratings))
+	files := 0
+	for k, s := range hf.ratings {
+		if specs[k], err = hf.parseRatingSpec(s); err != nil {
+			return h, nil, nil, err
+		}
+		if !specs[k].none {
+			files++
+		}
+	}
+	// A list of values gives one per --rating, or one per --rating with a
+	// file, skipping the periods without a rating (none@TIME).
+	skipNone := map[string]bool{}
 	for _, l := range []struct {
 		name string
 		v    numbers
 	}{{"zero-flow", hf.zeroFlow}, {"highest-gauging", hf.highest}} {
-		if n := len(l.v); n > 1 && n != len(hf.ratings) {
+		n := len(l.v)
+		switch {
+		case n <= 1 || n == len(hf.ratings):
+		case n == files:
+			skipNone[l.name] = true
+		case files < len(hf.ratings):
+			return h, nil, nil, usagef("%s: --%s gives %d values for %d --rating (%d with a file): give one for all, one per --rating, or one per --rating with a file",
+				hf.cmd, l.name, n, len(hf.ratings), files)
+		default:
 			return h, nil, nil, usagef("%s: --%s gives %d values for %d --rating: give one for all, or one per --rating", hf.cmd, l.name, n, len(hf.ratings))
 		}
 	}
 	var inputs, warnings []string
 	var periods []datedPeriod
-	for k, s := range hf.ratings {
-		ps, path, warns, err := hf.ratingPeriods(k, s, &d)
+	file := 0 // index of the --rating among those with a file
+	for k, spec := range specs {
+		at := func(name string) int {
+			if skipNone[name] {
+				return file
+			}
+			return k
+		}
+		ps, path, warns, err := hf.ratingPeriods(spec, at("zero-flow"), at("highest-gauging"), &d)
 		if err != nil {
 			return h, nil, nil, err
+		}
+		if !spec.none {
+			file++
 		}
 		if path != "" {
 			inputs = append(inputs, path)
@@ -168,24 +210,23 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	return h, inputs, warnings, nil
 }
 
-// ratingPeriods reads the k-th --rating, s: the periods it holds (one
-// without a rating for none@TIME), the file read ("" for none) and the
-// reader's warnings. The units of its headers are resolved into d.
-func (hf *historyFlags) ratingPeriods(k int, s string, d *unitsDecided) ([]datedPeriod, string, []string, error) {
-	spec, err := hf.parseRatingSpec(s)
-	if err != nil {
-		return nil, "", nil, err
-	}
+// ratingPeriods reads a --rating: the periods it holds (one without a
+// rating for none@TIME), the file read ("" for none) and the reader's
+// warnings. Its gauge height of zero flow is value z of --zero-flow and
+// its highest gauging value g of --highest-gauging (see perRating). The
+// units of its headers are resolved into d.
+func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided) ([]datedPeriod, string, []string, error) {
+	s := spec.text
 	if spec.none {
 		return []datedPeriod{{gauged.Period{From: spec.from}, s}}, "", nil, nil
 	}
 	opt := survey.RatingTableOptions{Sheet: hf.ratingSheet, Extrapolate: hf.extrapolate, Datum: hf.datum, From: spec.from,
 		UTCOffset: time.Duration(hf.offset)}
-	opt.ZeroFlow, opt.HasZeroFlow = perRating(hf.zeroFlow, k)
-	opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, k)
+	opt.ZeroFlow, opt.HasZeroFlow = perRating(hf.zeroFlow, z)
+	opt.HighGauging, opt.HasHighGauging = perRating(hf.highest, g)
 	rt, err := survey.ReadRatingTables(spec.path, opt)
 	if err != nil {
-		return nil, "", nil, err
+		return nil, "", nil, zeroFlowAbove(hf.cmd, opt, err)
 	}
 	if err := d.take(rt.Units, spec.path); err != nil {
 		return nil, "", nil, err

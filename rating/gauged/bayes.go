@@ -213,7 +213,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		return nil, fmt.Errorf("%w: no gauging is used", ErrFewGaugings)
 	}
 	if opt.OffsetFixed {
-		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+		if err := aboveOffset(gs, d, opt.ControlOptions); err != nil {
 			return nil, err
 		}
 	}

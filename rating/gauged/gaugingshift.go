@@ -57,6 +57,9 @@ type Visit struct {
 	Time time.Time
 	// Gaugings are indices into ShiftCheck.Gaugings, in time order.
 	Gaugings []int
+	// Period is the 0-based index of the rating period in force at Time
+	// (that of the first gauging), -1 when none is.
+	Period int
 	// Proposal is a shift diagram through the visit's measured shifts (one
 	// point per gauge height, shifts measured at one gauge height averaged),
 	// dated at Time, for the user to edit; no points when the visit gives
@@ -210,7 +213,7 @@ func (c *ShiftCheck) visits(gap time.Duration) {
 	for k, i := range idx {
 		g := c.Gaugings[i]
 		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap {
-			c.Visits = append(c.Visits, Visit{Time: g.Time})
+			c.Visits = append(c.Visits, Visit{Time: g.Time, Period: g.Period})
 		}
 		v := &c.Visits[len(c.Visits)-1]
 		v.Gaugings = append(v.Gaugings, i)

@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"time"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -274,7 +275,7 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	}
 	if opt.OffsetFixed {
 		m.base[m.iB()] = opt.Offset
-		if err := aboveOffset(gs, d, opt.Offset); err != nil {
+		if err := aboveOffset(gs, d, opt); err != nil {
 			return nil, nil, nil, err
 		}
 	} else {
@@ -307,17 +308,51 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	return p, reasons, warn, nil
 }
 
-// aboveOffset returns an ErrBelowZero error naming every used gauging at
-// or below a fixed offset.
-func aboveOffset(gs []Gauging, d *data, offset float64) error {
-	var errs []error
+// BelowZeroError reports gaugings used by a fit at or below a first
+// offset held fixed (ControlOptions.OffsetFixed): a rating
+// Q = A·(h − e)^C has no discharge there. It wraps ErrBelowZero.
+type BelowZeroError struct {
+	// ZeroFlow is the offset held fixed, the gauge height of zero flow
+	// (length unit of Units), and Source says where it came from.
+	ZeroFlow float64
+	Source   string
+	// Count is how many of the Used gaugings lie at or below it.
+	Count, Used int
+	// Lowest names the lowest of them (its source, else its stage) and
+	// Stage is its gauge height (length unit).
+	Lowest string
+	Stage  float64
+	// Units label the values.
+	Units rating.Units
+}
+
+func (e *BelowZeroError) Error() string {
+	L := e.Units.Length()
+	return fmt.Sprintf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
+		"a rating has no discharge there (%v)", e.Count, e.Used, gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
+}
+
+func (e *BelowZeroError) Unwrap() error { return ErrBelowZero }
+
+// aboveOffset returns a *BelowZeroError naming the lowest of the used
+// gaugings at or below a fixed offset, or nil when none is.
+func aboveOffset(gs []Gauging, d *data, opt ControlOptions) error {
+	e := &BelowZeroError{ZeroFlow: opt.Offset, Source: opt.OffsetSource, Used: d.n(), Units: opt.Units}
+	if e.Source == "" {
+		e.Source = "given"
+	}
 	for i, h := range d.h {
-		if !(h > offset) {
-			g := gs[d.index[i]]
-			errs = append(errs, fmt.Errorf("%s: stage %g: %w %g", g.label(), h, ErrBelowZero, offset))
+		if !(h > opt.Offset) {
+			if e.Count == 0 {
+				e.Lowest, e.Stage = gs[d.index[i]].label(), h
+			}
+			e.Count++
 		}
 	}
-	return errors.Join(errs...)
+	if e.Count == 0 {
+		return nil
+	}
+	return e
 }
 
 // scales returns the scale of each free parameter: 1 for ln A and C, the
@@ -816,6 +851,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
 		}
 	}
+	f.Warnings = append(f.Warnings, zeroFlowConflicts(gs, f.Rating.Controls[0].B, f.OffsetSource, f.Units)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -824,4 +860,35 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 	}
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
+}
+
+// zeroFlowConflicts returns a warning for each gauging that contradicts
+// the gauge height of zero flow e, the first control's offset (length
+// unit of u; source says where it came from, as "fitted"): zero
+// discharge measured above e, where the rating has flow, or discharge
+// measured at or below e, where it has none. A zero discharge counts as
+// above e only where the message would write the two heights apart
+// (ghDecimals); gaugings whose stage or discharge is
+// not a finite number are passed over.
+func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units) []string {
+	L, Q := u.Length(), u.Discharge()
+	var out []string
+	for _, g := range gs {
+		if !finite(g.Stage) || !finite(g.Discharge) {
+			continue
+		}
+		name := g.label()
+		if !g.Time.IsZero() {
+			name += " (" + g.Time.Format(time.RFC3339) + ")"
+		}
+		switch {
+		case g.Discharge == 0 && g.Stage > e && gh(g.Stage) != gh(e):
+			out = append(out, fmt.Sprintf("%s: zero discharge measured at gauge height %s %s, above the gauge height of zero flow e = %s %s (%s), where the rating has flow: "+
+				"check the gauging, and whether the control had changed", name, gh(g.Stage), L, gh(e), L, source))
+		case g.Discharge > 0 && !(g.Stage > e):
+			out = append(out, fmt.Sprintf("%s: discharge %.4g %s measured at gauge height %s %s, at or below the gauge height of zero flow e = %s %s (%s), where the rating has none: "+
+				"check the gauging, and whether the control had changed", name, g.Discharge, Q, gh(g.Stage), L, gh(e), L, source))
+		}
+	}
+	return out
 }

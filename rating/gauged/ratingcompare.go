@@ -37,10 +37,41 @@ type RatingComparison struct {
 	// MaxPercent is the largest absolute percent difference (percent) and
 	// MaxStage its gauge height (length unit); NaN when no row has one.
 	MaxPercent, MaxStage float64
+	// ExtrapolatedA and ExtrapolatedB say where in the common range each
+	// table is extrapolated above the highest gauging it rests on (rows
+	// marked extrapolated; RatingTable.HighGauging).
+	ExtrapolatedA, ExtrapolatedB Extrapolation
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 	// Figures are the report's pictures (none until drawn).
 	Figures []rating.Figure
+}
+
+// Extrapolation is the part of a comparison's common range where one
+// table lies above its highest gauging.
+type Extrapolation struct {
+	// Known says whether the table's highest gauging is known
+	// (RatingTable.HasHighGauging); without it nothing is said.
+	Known bool
+	// From and To bound the stages of the common range above the highest
+	// gauging (length unit): From is the highest gauging, or the start of
+	// the range when that lies below it; both NaN when no stage of the
+	// range is above it.
+	From, To float64
+}
+
+// Any reports stages of the common range above the highest gauging.
+func (e Extrapolation) Any() bool { return e.Known && e.From < e.To }
+
+// extrapolationOf returns where, in from..to, the stages lie above r's
+// highest gauging.
+func extrapolationOf(r *TableRating, from, to float64) Extrapolation {
+	t := r.table
+	e := Extrapolation{Known: t.HasHighGauging, From: math.NaN(), To: math.NaN()}
+	if e.Known && t.HighGauging < to {
+		e.From, e.To = math.Max(from, t.HighGauging), to
+	}
+	return e
 }
 
 // CompareOptions configure CompareRatings. The zero value compares at
@@ -56,9 +87,12 @@ type CompareOptions struct {
 
 // CompareRatings sets two ratings side by side at every stage of the range
 // both tables cover (a rating revision, say): each discharge, the
-// difference B − A and the percent difference 100·(B − A)/A. Extrapolation
-// is never used: the range is where both tables have rows. Ratings that
-// share no range give ErrNoCommonRange.
+// difference B − A and the percent difference 100·(B − A)/A. Neither
+// table is read beyond its rows: the range is where both have rows. Rows
+// above a table's highest gauging are extrapolated beyond the
+// measurements, and the comparison says where in the range they lie
+// (ExtrapolatedA, ExtrapolatedB). Ratings that share no range give
+// ErrNoCommonRange.
 func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, error) {
 	alo, ahi := a.Range()
 	blo, bhi := b.Range()
@@ -67,6 +101,7 @@ func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, er
 	if !(c.From < c.To) {
 		return c, fmt.Errorf("%w: %g to %g and %g to %g", ErrNoCommonRange, alo, ahi, blo, bhi)
 	}
+	c.ExtrapolatedA, c.ExtrapolatedB = extrapolationOf(a, c.From, c.To), extrapolationOf(b, c.From, c.To)
 	stages, err := c.stages(a, b, opt.Step)
 	if err != nil {
 		return c, err

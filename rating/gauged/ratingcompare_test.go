@@ -36,3 +36,45 @@ func TestCompareRatings(t *testing.T) {
 		t.Errorf("disjoint ratings: %v", err)
 	}
 }
+
+// A comparison says where in the common range each table lies above its
+// highest gauging. A is Q = 10·h on 0–10 m, B is Q = 11·h on 1–12 m: the
+// common range is 1–10 m (closed form, as above), and the part above a
+// highest gauging H is H–10 m, or all of it when H is below 1 m.
+func TestCompareRatingsExtrapolation(t *testing.T) {
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name         string
+		highA, highB float64 // NaN: not known
+		wantA, wantB Extrapolation
+		anyA, anyB   bool
+	}{
+		{"A above its gaugings", 8, nan, Extrapolation{true, 8, 10}, Extrapolation{false, nan, nan}, true, false},
+		{"both", 8, 6.5, Extrapolation{true, 8, 10}, Extrapolation{true, 6.5, 10}, true, true},
+		{"B only, all of the range", 12, 0.5, Extrapolation{true, nan, nan}, Extrapolation{true, 1, 10}, false, true},
+		{"neither", 10, 11, Extrapolation{true, nan, nan}, Extrapolation{true, nan, nan}, false, false},
+		{"neither known", nan, nan, Extrapolation{false, nan, nan}, Extrapolation{false, nan, nan}, false, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			ta := RatingTable{Name: "A", Points: []RatingPoint{{0, 0}, {10, 100}}, HasHighGauging: !math.IsNaN(tc.highA), HighGauging: tc.highA}
+			tb := RatingTable{Name: "B", Points: []RatingPoint{{1, 11}, {12, 132}}, HasHighGauging: !math.IsNaN(tc.highB), HighGauging: tc.highB}
+			if !ta.HasHighGauging {
+				ta.HighGauging = 0
+			}
+			if !tb.HasHighGauging {
+				tb.HighGauging = 0
+			}
+			c, err := CompareRatings(compileRating(t, ta), compileRating(t, tb), CompareOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			same := func(got, want Extrapolation) bool {
+				eq := func(x, y float64) bool { return x == y || math.IsNaN(x) && math.IsNaN(y) }
+				return got.Known == want.Known && eq(got.From, want.From) && eq(got.To, want.To)
+			}
+			if !same(c.ExtrapolatedA, tc.wantA) || !same(c.ExtrapolatedB, tc.wantB) || c.ExtrapolatedA.Any() != tc.anyA || c.ExtrapolatedB.Any() != tc.anyB {
+				t.Errorf("A %+v (any %v), B %+v (any %v); want A %+v, B %+v", c.ExtrapolatedA, c.ExtrapolatedA.Any(), c.ExtrapolatedB, c.ExtrapolatedB.Any(), tc.wantA, tc.wantB)
+			}
+		})
+	}
+}

@@ -103,7 +103,7 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	bw.WriteString(siteLine(c.Provenance))
 	ts := comparedTables(c)
 	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
-	fmt.Fprintf(bw, "Common range of stage: %s to %s %s (neither table is extrapolated)\n", FormatLength(c.From), FormatLength(c.To), L)
+	fmt.Fprintf(bw, "Common range of stage: %s to %s %s, within the rows of both tables; %s\n", FormatLength(c.From), FormatLength(c.To), L, extrapolationWords(c))
 	fmt.Fprintf(bw, "Largest difference: %s %% at %s %s\n", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage), L)
 	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s\n", "stage", "A", "B", "B − A", "% diff.")
 	fmt.Fprintf(bw, "  %9s %12s %12s %12s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")")
@@ -112,6 +112,38 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	}
 	writeTextEnd(bw, c.Warnings)
 	return bw.Flush()
+}
+
+// extrapolationWords says which tables of a comparison are extrapolated
+// above their highest gauging within the common range, and over which
+// stages; a table whose highest gauging is not known is said to be so.
+func extrapolationWords(c *gauged.RatingComparison) string {
+	L := c.Units.Length()
+	a, b := c.ExtrapolatedA, c.ExtrapolatedB
+	span := func(e gauged.Extrapolation) string {
+		return fmt.Sprintf("from %s to %s %s", FormatLength(e.From), FormatLength(e.To), L)
+	}
+	other := func(name string, e gauged.Extrapolation) string {
+		if !e.Known {
+			return name + "'s highest gauging is not known"
+		}
+		return name + " is not"
+	}
+	switch {
+	case a.Any() && b.Any():
+		return fmt.Sprintf("A is extrapolated above its highest gauging %s, B %s", span(a), span(b))
+	case a.Any():
+		return fmt.Sprintf("A is extrapolated above its highest gauging %s; %s", span(a), other("B", b))
+	case b.Any():
+		return fmt.Sprintf("B is extrapolated above its highest gauging %s; %s", span(b), other("A", a))
+	case a.Known && b.Known:
+		return "neither table is extrapolated above its highest gauging"
+	case a.Known:
+		return "A is not extrapolated above its highest gauging; B's highest gauging is not known"
+	case b.Known:
+		return "B is not extrapolated above its highest gauging; A's highest gauging is not known"
+	}
+	return "neither table's highest gauging is known"
 }
 
 // writeTextEnd writes the warnings and the caution at the end of a text
@@ -143,7 +175,8 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"program", programName(c.Provenance), ""},
 		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
-		{"common range of stage", fmt.Sprintf("%s to %s (neither table extrapolated)", FormatLength(c.From), FormatLength(c.To)), L},
+		{"common range of stage", fmt.Sprintf("%s to %s (within the rows of both tables)", FormatLength(c.From), FormatLength(c.To)), L},
+		{"extrapolated above the highest gauging", extrapolationWords(c), ""},
 		{"largest difference", fmt.Sprintf("%s %% at %s", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage)), L},
 	}
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {

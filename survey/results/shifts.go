@@ -247,7 +247,7 @@ func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
 	var props []shiftInfo
 	for _, v := range c.Visits {
 		if len(v.Proposal.Points) > 0 {
-			props = append(props, shiftInfo{ShiftDiagram: v.Proposal, period: -1})
+			props = append(props, shiftInfo{ShiftDiagram: v.Proposal, period: v.Period})
 		}
 	}
 	if err := writeShiftsSheet(b, SheetProposals, props, z, c.Units); err != nil {
