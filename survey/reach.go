@@ -66,7 +66,7 @@ var (
 	ErrDuplicateSection = errors.New("section id used twice")
 	ErrNoSurvey         = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
 	ErrSurveyAbsent     = errors.New("no such survey file or sheet")
-	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table (or allow it explicitly)")
+	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table, or give --surveys-anywhere to allow it")
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
@@ -232,11 +232,12 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	}
 	var errs errorList
 	ids := map[string]bool{}
-	lastDist := math.Inf(-1)
+	order := distanceOrder{last: math.Inf(-1), falling: true}
 	for _, rec := range t.Records {
-		row := r.readRow(rec, opt, ids, &lastDist, &errs)
+		row := r.readRow(rec, opt, ids, &order, &errs)
 		r.Rows = append(r.Rows, row)
 	}
+	errs = order.report(errs)
 	if len(errs) > 0 {
 		return nil, errs.err()
 	}
@@ -250,9 +251,57 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	return r, nil
 }
 
+// distanceOrder follows the distances of a reach table row by row, so
+// that a table out of order is reported once, at its first offending row,
+// rather than at every row.
+type distanceOrder struct {
+	last    float64     // the distance of the row above
+	given   int         // rows with a distance
+	bad     int         // rows whose distance does not increase
+	falling bool        // every bad row's distance is below the one above
+	first   *ParseError // at the first bad row's distance
+	d, prev float64     // that row's distance and the one above it
+}
+
+// next takes the distance d of the next row (at the cell placed by at).
+func (o *distanceOrder) next(d float64, at func(error) *ParseError) {
+	o.given++
+	if !(d > o.last) {
+		o.bad++
+		o.falling = o.falling && d < o.last
+		if o.first == nil {
+			o.first, o.d, o.prev = at(ErrDistanceOrder), d, o.last
+		}
+	}
+	o.last = d
+}
+
+// report adds the one error of a table out of order to errs, in row order
+// among the others: ErrDistanceOrder at the first offending row, saying
+// the order expected, whether the whole table is listed downstream first
+// and how many rows are out of order.
+func (o *distanceOrder) report(errs errorList) errorList {
+	if o.first == nil {
+		return errs
+	}
+	what := fmt.Sprintf("(%g after %g)", o.d, o.prev)
+	switch {
+	case o.falling && o.bad == o.given-1:
+		what += ": the table lists its sections downstream first; list the upstream section first"
+	case o.bad > 1:
+		what = fmt.Sprintf("(%g after %g; %d rows out of order)", o.d, o.prev, o.bad)
+	}
+	o.first.Err = fmt.Errorf("%w %s", ErrDistanceOrder, what)
+	i := 0
+	for i < len(errs) && errs[i].Row <= o.first.Row {
+		i++
+	}
+	return slices.Insert(errs, i, o.first)
+}
+
 // readRow reads one section of a reach table, adding every bad cell to
-// errs.
-func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastDist *float64, errs *errorList) ReachRow {
+// errs except a distance out of order, which order gathers.
+func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order *distanceOrder, errs *errorList) ReachRow {
 	t := r.t
 	add := func(name string, err error) {
 		*errs = append(*errs, t.At(rec, r.cols[name], err))
@@ -279,12 +328,9 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastD
 		*errs = append(*errs, err.(*ParseError))
 	case !ok:
 		add(ReachColDistance, ErrDistanceBlank)
-	case !(d > *lastDist):
-		add(ReachColDistance, fmt.Errorf("%w (%g after %g)", ErrDistanceOrder, d, *lastDist))
-	}
-	if ok {
+	default:
 		row.Distance = d
-		*lastDist = d
+		order.next(d, func(err error) *ParseError { return t.At(rec, r.cols[ReachColDistance], err) })
 	}
 	marks := 0
 	for _, c := range []struct {
