@@ -33,10 +33,37 @@ const (
 	ReachColLeftLength    = "left_length"
 	ReachColChannelLength = "channel_length"
 	ReachColRightLength   = "right_length"
-	// ReachColStructure names a structure at the section (bridge,
-	// culvert, weir); blank for an open channel.
+	// ReachColStructure says whether the section is at a structure: one
+	// of StructureWords, or one of OpenChannelWords or blank for an open
+	// channel.
 	ReachColStructure = "structure"
 )
+
+// StructureWords returns the words of the structure column that mark a
+// section at a structure, matched case-insensitively: a kind of structure,
+// or a plain yes.
+func StructureWords() []string {
+	return []string{"bridge", "culvert", "weir", "dam", "yes", "true", "1"}
+}
+
+// OpenChannelWords returns the words of the structure column that mean no
+// structure (an open channel, as a blank cell does), matched
+// case-insensitively.
+func OpenChannelWords() []string { return []string{"no", "none", "false", "0"} }
+
+// parseStructure reads a structure cell: "" for an open channel (blank or
+// one of OpenChannelWords), the word as written for one of
+// StructureWords, or ErrStructureWord.
+func parseStructure(cell string) (string, error) {
+	w := strings.ToLower(strings.TrimSpace(cell))
+	switch {
+	case w == "" || slices.Contains(OpenChannelWords(), w):
+		return "", nil
+	case slices.Contains(StructureWords(), w):
+		return strings.TrimSpace(cell), nil
+	}
+	return "", ErrStructureWord
+}
 
 // ReachColumns returns the columns of a reach table in their usual order.
 func ReachColumns() []string {
@@ -73,7 +100,9 @@ var (
 	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 	ErrFlowLengthValue  = errors.New("a flow length must be zero or more (blank: the distance to the next section)")
-	ErrStructure        = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
+	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
+		strings.Join(StructureWords(), ", "), strings.Join(OpenChannelWords(), ", "))
+	ErrStructure = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
 		"is refused, not approximated; end the reach above it or start it below it")
 )
 
@@ -95,8 +124,8 @@ type ReachRow struct {
 	// LeftLength, ChannelLength and RightLength are the flow lengths to
 	// the next section (length unit); NaN when blank or absent.
 	LeftLength, ChannelLength, RightLength float64
-	// Structure is the structure column as written ("" for an open
-	// channel).
+	// Structure is the structure column as written when it marks a
+	// structure (one of StructureWords); "" for an open channel.
 	Structure string
 	// Row is the 1-based line or sheet row.
 	Row int
@@ -308,10 +337,14 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 	}
 	nan := math.NaN()
 	row := ReachRow{Row: rec.Row, WSLeft: nan, WSRight: nan, LeftLength: nan, ChannelLength: nan, RightLength: nan,
-		ID:        t.Cell(rec, r.cols[ReachColSection]),
-		Survey:    t.Cell(rec, r.cols[ReachColSurvey]),
-		Note:      t.Cell(rec, r.cols[ColNote]),
-		Structure: t.Cell(rec, r.cols[ReachColStructure])}
+		ID:     t.Cell(rec, r.cols[ReachColSection]),
+		Survey: t.Cell(rec, r.cols[ReachColSurvey]),
+		Note:   t.Cell(rec, r.cols[ColNote])}
+	if st, err := parseStructure(t.Cell(rec, r.cols[ReachColStructure])); err != nil {
+		add(ReachColStructure, err)
+	} else {
+		row.Structure = st
+	}
 	switch {
 	case row.ID == "":
 		add(ReachColSection, ErrSectionID)
@@ -375,8 +408,9 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 // finite reports whether v is a number other than ±Inf.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// OpenChannel refuses a reach with a section at a structure (the
-// structure column not blank), naming each such cell (ErrStructure).
+// OpenChannel refuses a reach with a section at a structure (one of
+// StructureWords in the structure column), naming each such cell
+// (ErrStructure).
 func (r *Reach) OpenChannel() error {
 	var errs errorList
 	for i, row := range r.Rows {

@@ -366,6 +366,54 @@ func TestReachBackwaterErrors(t *testing.T) {
 	}
 }
 
+// The structure column: blank and the open-channel words mean no
+// structure, the structure words are refused by OpenChannel, and any other
+// word is refused at its cell when the table is read.
+func TestReachStructureWords(t *testing.T) {
+	const head = "section,survey,distance,structure\n"
+	for _, tc := range []struct {
+		cell  string
+		read  error  // from reading the table
+		open  error  // from OpenChannel
+		where string // position of the error
+	}{
+		{"", nil, nil, ""},
+		{"no", nil, nil, ""},
+		{"None", nil, nil, ""},
+		{"0", nil, nil, ""},
+		{" FALSE ", nil, nil, ""},
+		{"bridge", nil, ErrStructure, "reach.csv:3:4"},
+		{"Culvert", nil, ErrStructure, "reach.csv:3:4"},
+		{"weir", nil, ErrStructure, "reach.csv:3:4"},
+		{"dam", nil, ErrStructure, "reach.csv:3:4"},
+		{"yes", nil, ErrStructure, "reach.csv:3:4"},
+		{"1", nil, ErrStructure, "reach.csv:3:4"},
+		{"true", nil, ErrStructure, "reach.csv:3:4"},
+		{"footbridge deck", ErrStructureWord, nil, "reach.csv:3:4: structure \"footbridge deck\": structure must be one of bridge, culvert"},
+		{"n", ErrStructureWord, nil, "reach.csv:3:4"},
+		{"-", ErrStructureWord, nil, "reach.csv:3:4"},
+	} {
+		t.Run(tc.cell, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": head + "A,a.csv,0,\nB,a.csv,10,\"" + tc.cell + "\"\n", "a.csv": reachSurveyCSV})
+			r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{MarksOptional: true})
+			if !errors.Is(err, tc.read) || (err == nil) != (tc.read == nil) {
+				t.Fatalf("read: %v, want %v", err, tc.read)
+			}
+			if err == nil {
+				if err = r.OpenChannel(); !errors.Is(err, tc.open) || (err == nil) != (tc.open == nil) {
+					t.Fatalf("open channel: %v, want %v", err, tc.open)
+				}
+				if want := strings.TrimSpace(tc.cell); tc.open == nil && r.Rows[1].Structure != "" || tc.open != nil && r.Rows[1].Structure != want {
+					t.Errorf("structure %q, want %q", r.Rows[1].Structure, want)
+				}
+			}
+			if err != nil && !strings.Contains(err.Error(), tc.where) {
+				t.Errorf("err = %v, want %s", err, tc.where)
+			}
+		})
+	}
+}
+
 // A flow-length error of the computation is placed on the channel-length
 // cell.
 func TestReachFlowLengthErrorPosition(t *testing.T) {

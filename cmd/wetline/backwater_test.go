@@ -209,8 +209,10 @@ func TestBackwaterRefusals(t *testing.T) {
 		// A stage is held to ±1e5 as every stage flag is (survey.MaxElevation).
 		{"implausible stage", "", []string{"--discharges", "5", "--boundary", "stage:1e9"}, 2, "--boundary stage:1e9 is beyond ±100000: not a plausible stage"},
 		{"stage below the bed", "", []string{"--discharges", "5", "--boundary", "stage:99"}, 1, "not above its lowest ground"},
-		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
-			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": the section is at a structure"},
+		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,no\nXS-1,tallow-xs1.csv,140,Bridge\nXS-3,tallow-xs3.csv,300,none",
+			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"Bridge\": the section is at a structure"},
+		{"unknown structure word", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
+			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": structure must be one of bridge, culvert, weir, dam, yes, true, 1"},
 		{"bad flow length", head + ",channel_length\nXS-2,tallow-xs2.csv,0,-140\nXS-1,tallow-xs1.csv,140,\nXS-3,tallow-xs3.csv,300,",
 			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:2:4: channel_length \"-140\""},
 		{"distance order", head + "\nXS-2,tallow-xs2.csv,0\nXS-1,tallow-xs1.csv,0\nXS-3,tallow-xs3.csv,300",
