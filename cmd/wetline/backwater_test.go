@@ -7,6 +7,7 @@ import (
 	"image/png"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -172,6 +173,66 @@ func TestBackwaterJSONKeys(t *testing.T) {
 		got := keys(c.data)
 		if len(got) < len(c.want) || !slices.Equal(got[:len(c.want)], c.want) {
 			t.Errorf("%s keys %q, want them to start %q", c.what, got, c.want)
+		}
+	}
+}
+
+// The README's table of JSON keys gives the backwater report's keys, and
+// those of its rating, exactly in the order the command writes them.
+func TestReadmeBackwaterJSONKeys(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "backwater", bwPlain(t), "--discharges", "12", "--boundary", "critical", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	keys := func(data []byte) []string {
+		dec := json.NewDecoder(bytes.NewReader(data))
+		dec.Token()
+		var ks []string
+		for dec.More() {
+			tok, _ := dec.Token()
+			ks = append(ks, tok.(string))
+			var skip json.RawMessage
+			dec.Decode(&skip)
+		}
+		return ks
+	}
+	var doc struct{ Rating json.RawMessage }
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	var row string
+	for _, line := range strings.Split(readme(t), "\n") {
+		if strings.HasPrefix(line, "| backwater |") {
+			row = line
+		}
+	}
+	cells := strings.Split(row, "|")
+	if len(cells) < 4 {
+		t.Fatalf("README has no backwater row in its table of outputs: %q", row)
+	}
+	// The JSON cell: `report keys`; in `rating`: `rating keys` (...).
+	quoted := regexp.MustCompile("`([^`]*)`").FindAllStringSubmatch(cells[3], -1)
+	list := func(i int) []string {
+		if i >= len(quoted) {
+			return nil
+		}
+		var ks []string
+		for _, k := range strings.Split(quoted[i][1], ",") {
+			ks = append(ks, strings.TrimSuffix(strings.TrimSpace(k), "[]"))
+		}
+		return ks
+	}
+	for _, c := range []struct {
+		what   string
+		data   []byte
+		readme []string
+	}{
+		{"report", []byte(out), list(0)},
+		{"rating", doc.Rating, list(2)},
+	} {
+		if got := keys(c.data); !slices.Equal(got, c.readme) {
+			t.Errorf("%s keys written %q, README says %q", c.what, got, c.readme)
 		}
 	}
 }
