@@ -298,6 +298,15 @@ func sideWords(s reach.Side) string {
 	return "the mean of the left and right marks"
 }
 
+// verificationNote is the foot line of the backwater profiles on the
+// verification profile: its discharge and its mean and largest departure
+// from the marks (length unit, signed; a departure that rounds to zero
+// without a sign).
+func verificationNote(v reach.Verification, u rating.Units) string {
+	return fmt.Sprintf("verification at %s %s: mean departure from the marks %s %s, largest %s %s",
+		sig3(v.Discharge), u.Discharge(), fmtSigned(v.MeanDeparture, 3), u.Length(), fmtSigned(v.MaxDeparture, 3), u.Length())
+}
+
 // sig3 formats a value to three significant figures for a note.
 func sig3(v float64) string {
 	if math.IsNaN(v) {
@@ -363,8 +372,7 @@ func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 	}
 	if v := rep.Verification; v != nil {
 		bp.Profiles = append(bp.Profiles, profileLine(v.Profile, true))
-		bp.Notes = append(bp.Notes, fmt.Sprintf("verification at %s %s: mean departure from the marks %+.3f %s, largest %+.3f %s",
-			sig3(v.Discharge), r.Units.Discharge(), v.MeanDeparture, r.Units.Length(), v.MaxDeparture, r.Units.Length()))
+		bp.Notes = append(bp.Notes, verificationNote(*v, r.Units))
 	}
 	if err := set.add("profiles", "reach profile: thalweg, every computed water surface, critical stages and high-water marks", func(w io.Writer) (Result, error) {
 		return BackwaterProfiles(w, bp)

@@ -350,7 +350,7 @@ func ReachSections(w io.Writer, r ReachPlot) (Result, error) {
 // its water surface, shifted to put the thalweg at station 0, widening
 // lo and hi to them; it reports whether anything was drawn.
 func addOverlaidSection(p *plot.Plot, i int, s ReachSection, ground []subdivide.Point, un unitNames, lo, hi *float64) bool {
-	sty := seriesStyles[i%len(seriesStyles)]
+	sty := seriesStyle(i)
 	t := s.thalweg()
 	xy := make(plotter.XYs, len(ground))
 	shifted := make([]subdivide.Point, len(ground))
@@ -367,13 +367,18 @@ func addOverlaidSection(p *plot.Plot, i int, s ReachSection, ground []subdivide.
 	sc, _ := plotter.NewScatter(xy)
 	sc.GlyphStyle = draw.GlyphStyle{Color: sty.color, Radius: vg.Points(2.6), Shape: sty.glyph}
 	p.Add(l, sc)
-	label := fmt.Sprintf("%s at %s %s, water surface %s", orDefault(s.ID, fmt.Sprintf("section %d", i+1)),
-		fmtNum(s.Distance), un.length, fmtStage(s.WaterSurface))
-	p.Legend.Add(label, l, sc)
+	p.Legend.Add(overlayLabel(i, s, un), l, sc)
 	pools := wetPools(shifted, s.WaterSurface, true)
 	p.Add(waterLine{pools: pools, stage: s.WaterSurface, style: lineStyle(sty.color, 1.2, sty.dashes...)})
 	*hi = math.Max(*hi, s.WaterSurface)
 	return true
+}
+
+// overlayLabel is the legend entry of section i of the overlay: its id
+// (else its number), distance and water surface, each with its unit.
+func overlayLabel(i int, s ReachSection, un unitNames) string {
+	return fmt.Sprintf("%s at %s %s, water surface %s %s", orDefault(s.ID, fmt.Sprintf("section %d", i+1)),
+		fmtNum(s.Distance), un.length, fmtStage(s.WaterSurface), un.length)
 }
 
 func (r ReachPlot) foot() []string {

@@ -6,6 +6,7 @@ import (
 	"image/color"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	stdfont "golang.org/x/image/font"
@@ -115,19 +116,44 @@ var (
 	colEnergy    = color.NRGBA{R: 0xb0, G: 0x3a, B: 0x2e, A: 0xff} // energy grade line
 )
 
-// seriesStyles is a sequence of line styles for several sections drawn
-// together: each differs from its neighbours in lightness and dashes.
-var seriesStyles = []struct {
+// series is the look of one of several sections drawn together.
+type series struct {
 	color  color.NRGBA
 	dashes []vg.Length
 	glyph  draw.GlyphDrawer
-}{
+}
+
+// seriesStyles is a sequence of line styles for several sections drawn
+// together: each differs from its neighbours in lightness and dashes.
+var seriesStyles = []series{
 	{colInk, nil, draw.CircleGlyph{}},
 	{colFitted, []vg.Length{vg.Points(7), vg.Points(3)}, draw.SquareGlyph{}},
 	{colWater, []vg.Length{vg.Points(2), vg.Points(2)}, draw.TriangleGlyph{}},
 	{color.NRGBA{R: 0x8c, G: 0x9a, B: 0x3a, A: 0xff}, []vg.Length{vg.Points(9), vg.Points(3), vg.Points(2), vg.Points(3)}, draw.RingGlyph{}},
 	{colBank, []vg.Length{vg.Points(4), vg.Points(4)}, draw.BoxGlyph{}},
 	{colMuted, []vg.Length{vg.Points(12), vg.Points(4)}, draw.CrossGlyph{}},
+}
+
+// seriesStyle returns the look of the i-th (from 0) of several sections
+// drawn together, distinct from every other for any count: the first
+// len(seriesStyles) are those of the table; after them round
+// k = i/len(seriesStyles) takes the table's colours again, each with a
+// dash pattern of its own round (a long dash and k+1 dots, which no
+// pattern of the table or of another round has) and a glyph moved on by
+// k, so no two sections share colour and dashes.
+func seriesStyle(i int) series {
+	n := len(seriesStyles)
+	i = max(i, 0)
+	k := i / n
+	base := seriesStyles[i%n]
+	if k == 0 {
+		return base
+	}
+	dashes := []vg.Length{vg.Points(10), vg.Points(3)}
+	for range k + 1 {
+		dashes = append(dashes, vg.Points(1.5), vg.Points(3))
+	}
+	return series{color: base.color, dashes: dashes, glyph: seriesStyles[(i+k)%n].glyph}
 }
 
 // Type sizes in points.
@@ -333,7 +359,8 @@ const (
 )
 
 // fmtNum formats a value for a label with up to 4 significant digits and
-// no exponent for everyday magnitudes.
+// no exponent for everyday magnitudes; a value that rounds to zero prints
+// without a sign.
 func fmtNum(v float64) string {
 	if !finite(v) {
 		return "–"
@@ -344,14 +371,39 @@ func fmtNum(v float64) string {
 	}
 	s := fmt.Sprintf("%.4g", v)
 	if strings.ContainsAny(s, "e") {
-		return fmt.Sprintf("%.0f", v)
+		return unsignedZero(fmt.Sprintf("%.0f", v))
+	}
+	return unsignedZero(s)
+}
+
+// fmtStage formats a stage or elevation with 2 decimals (3 for feet is
+// not the trade's habit on figures; 2 suffice at figure scale); a value
+// that rounds to zero prints without a sign.
+func fmtStage(v float64) string { return unsignedZero(fmt.Sprintf("%.2f", v)) }
+
+// fmtSigned formats a difference (a departure, a shift) with its sign and
+// the given decimals, "+0.012" or "-0.004"; one that rounds to zero
+// prints as "0.000", without a sign.
+func fmtSigned(v float64, decimals int) string {
+	s := strconv.FormatFloat(v, 'f', decimals, 64)
+	if z := unsignedZero(s); z != s || strings.Trim(s, "0.") == "" {
+		return z
+	}
+	if v > 0 {
+		return "+" + s
 	}
 	return s
 }
 
-// fmtStage formats a stage or elevation with 2 decimals (3 for feet is
-// not the trade's habit on figures; 2 suffice at figure scale).
-func fmtStage(v float64) string { return fmt.Sprintf("%.2f", v) }
+// unsignedZero drops the minus sign of a formatted number that shows only
+// zeros ("-0.000", "-0"), which printing a small negative value or a
+// negative zero gives.
+func unsignedZero(s string) string {
+	if rest, ok := strings.CutPrefix(s, "-"); ok && rest != "" && strings.Trim(rest, "0.") == "" {
+		return rest
+	}
+	return s
+}
 
 // drawRow draws panels side by side in equal tiles.
 func drawRow(c draw.Canvas, panels []*plot.Plot, gap vg.Length) {

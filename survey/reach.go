@@ -33,10 +33,37 @@ const (
 	ReachColLeftLength    = "left_length"
 	ReachColChannelLength = "channel_length"
 	ReachColRightLength   = "right_length"
-	// ReachColStructure names a structure at the section (bridge,
-	// culvert, weir); blank for an open channel.
+	// ReachColStructure says whether the section is at a structure: one
+	// of StructureWords, or one of OpenChannelWords or blank for an open
+	// channel.
 	ReachColStructure = "structure"
 )
+
+// StructureWords returns the words of the structure column that mark a
+// section at a structure, matched case-insensitively: a kind of structure,
+// or a plain yes.
+func StructureWords() []string {
+	return []string{"bridge", "culvert", "weir", "dam", "yes", "true", "1"}
+}
+
+// OpenChannelWords returns the words of the structure column that mean no
+// structure (an open channel, as a blank cell does), matched
+// case-insensitively.
+func OpenChannelWords() []string { return []string{"no", "none", "false", "0"} }
+
+// parseStructure reads a structure cell: "" for an open channel (blank or
+// one of OpenChannelWords), the word as written for one of
+// StructureWords, or ErrStructureWord.
+func parseStructure(cell string) (string, error) {
+	w := strings.ToLower(strings.TrimSpace(cell))
+	switch {
+	case w == "" || slices.Contains(OpenChannelWords(), w):
+		return "", nil
+	case slices.Contains(StructureWords(), w):
+		return strings.TrimSpace(cell), nil
+	}
+	return "", ErrStructureWord
+}
 
 // ReachColumns returns the columns of a reach table in their usual order.
 func ReachColumns() []string {
@@ -66,14 +93,16 @@ var (
 	ErrDuplicateSection = errors.New("section id used twice")
 	ErrNoSurvey         = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
 	ErrSurveyAbsent     = errors.New("no such survey file or sheet")
-	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table (or allow it explicitly)")
+	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table, or give --surveys-anywhere to allow it")
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
 	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 	ErrFlowLengthValue  = errors.New("a flow length must be zero or more (blank: the distance to the next section)")
-	ErrStructure        = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
+	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
+		strings.Join(StructureWords(), ", "), strings.Join(OpenChannelWords(), ", "))
+	ErrStructure = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
 		"is refused, not approximated; end the reach above it or start it below it")
 )
 
@@ -95,8 +124,8 @@ type ReachRow struct {
 	// LeftLength, ChannelLength and RightLength are the flow lengths to
 	// the next section (length unit); NaN when blank or absent.
 	LeftLength, ChannelLength, RightLength float64
-	// Structure is the structure column as written ("" for an open
-	// channel).
+	// Structure is the structure column as written when it marks a
+	// structure (one of StructureWords); "" for an open channel.
 	Structure string
 	// Row is the 1-based line or sheet row.
 	Row int
@@ -232,11 +261,12 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	}
 	var errs errorList
 	ids := map[string]bool{}
-	lastDist := math.Inf(-1)
+	order := distanceOrder{last: math.Inf(-1), falling: true}
 	for _, rec := range t.Records {
-		row := r.readRow(rec, opt, ids, &lastDist, &errs)
+		row := r.readRow(rec, opt, ids, &order, &errs)
 		r.Rows = append(r.Rows, row)
 	}
+	errs = order.report(errs)
 	if len(errs) > 0 {
 		return nil, errs.err()
 	}
@@ -250,19 +280,71 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	return r, nil
 }
 
+// distanceOrder follows the distances of a reach table row by row, so
+// that a table out of order is reported once, at its first offending row,
+// rather than at every row.
+type distanceOrder struct {
+	last    float64     // the distance of the row above
+	given   int         // rows with a distance
+	bad     int         // rows whose distance does not increase
+	falling bool        // every bad row's distance is below the one above
+	first   *ParseError // at the first bad row's distance
+	d, prev float64     // that row's distance and the one above it
+}
+
+// next takes the distance d of the next row (at the cell placed by at).
+func (o *distanceOrder) next(d float64, at func(error) *ParseError) {
+	o.given++
+	if !(d > o.last) {
+		o.bad++
+		o.falling = o.falling && d < o.last
+		if o.first == nil {
+			o.first, o.d, o.prev = at(ErrDistanceOrder), d, o.last
+		}
+	}
+	o.last = d
+}
+
+// report adds the one error of a table out of order to errs, in row order
+// among the others: ErrDistanceOrder at the first offending row, saying
+// the order expected, whether the whole table is listed downstream first
+// and how many rows are out of order.
+func (o *distanceOrder) report(errs errorList) errorList {
+	if o.first == nil {
+		return errs
+	}
+	what := fmt.Sprintf("(%g after %g)", o.d, o.prev)
+	switch {
+	case o.falling && o.bad == o.given-1:
+		what += ": the table lists its sections downstream first; list the upstream section first"
+	case o.bad > 1:
+		what = fmt.Sprintf("(%g after %g; %d rows out of order)", o.d, o.prev, o.bad)
+	}
+	o.first.Err = fmt.Errorf("%w %s", ErrDistanceOrder, what)
+	i := 0
+	for i < len(errs) && errs[i].Row <= o.first.Row {
+		i++
+	}
+	return slices.Insert(errs, i, o.first)
+}
+
 // readRow reads one section of a reach table, adding every bad cell to
-// errs.
-func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastDist *float64, errs *errorList) ReachRow {
+// errs except a distance out of order, which order gathers.
+func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order *distanceOrder, errs *errorList) ReachRow {
 	t := r.t
 	add := func(name string, err error) {
 		*errs = append(*errs, t.At(rec, r.cols[name], err))
 	}
 	nan := math.NaN()
 	row := ReachRow{Row: rec.Row, WSLeft: nan, WSRight: nan, LeftLength: nan, ChannelLength: nan, RightLength: nan,
-		ID:        t.Cell(rec, r.cols[ReachColSection]),
-		Survey:    t.Cell(rec, r.cols[ReachColSurvey]),
-		Note:      t.Cell(rec, r.cols[ColNote]),
-		Structure: t.Cell(rec, r.cols[ReachColStructure])}
+		ID:     t.Cell(rec, r.cols[ReachColSection]),
+		Survey: t.Cell(rec, r.cols[ReachColSurvey]),
+		Note:   t.Cell(rec, r.cols[ColNote])}
+	if st, err := parseStructure(t.Cell(rec, r.cols[ReachColStructure])); err != nil {
+		add(ReachColStructure, err)
+	} else {
+		row.Structure = st
+	}
 	switch {
 	case row.ID == "":
 		add(ReachColSection, ErrSectionID)
@@ -279,12 +361,9 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastD
 		*errs = append(*errs, err.(*ParseError))
 	case !ok:
 		add(ReachColDistance, ErrDistanceBlank)
-	case !(d > *lastDist):
-		add(ReachColDistance, fmt.Errorf("%w (%g after %g)", ErrDistanceOrder, d, *lastDist))
-	}
-	if ok {
+	default:
 		row.Distance = d
-		*lastDist = d
+		order.next(d, func(err error) *ParseError { return t.At(rec, r.cols[ReachColDistance], err) })
 	}
 	marks := 0
 	for _, c := range []struct {
@@ -329,8 +408,9 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, lastD
 // finite reports whether v is a number other than ±Inf.
 func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
-// OpenChannel refuses a reach with a section at a structure (the
-// structure column not blank), naming each such cell (ErrStructure).
+// OpenChannel refuses a reach with a section at a structure (one of
+// StructureWords in the structure column), naming each such cell
+// (ErrStructure).
 func (r *Reach) OpenChannel() error {
 	var errs errorList
 	for i, row := range r.Rows {

@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -130,6 +131,9 @@ func TestReachErrors(t *testing.T) {
 		{"bad quality", head + "A,a.csv,0,10,,splendid\n", ErrMarkQuality, "reach.csv:2:6"},
 		{"unknown survey file", head + "A,nothere.csv,0,10,,\n", ErrSurveyAbsent, "reach.csv:2:2"},
 		{"bad survey", head + "A,bad.csv,0,10,,\n", ErrNotNumber, "bad.csv:2:2"},
+		// The refusal names the flag that allows such a survey.
+		{"survey outside the folder", head + "A,../a.csv,0,10,,\n", ErrSurveyOutside, "reach.csv:2:2: survey \"../a.csv\": the survey lies outside " +
+			"the reach table's folder: keep the surveys beside the table, or give --surveys-anywhere to allow it"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := reachFiles(t, map[string]string{"reach.csv": tc.reach, "a.csv": reachSurveyCSV,
@@ -140,6 +144,53 @@ func TestReachErrors(t *testing.T) {
 			}
 			if !strings.Contains(err.Error(), tc.where) {
 				t.Errorf("err = %v, want position %s", err, tc.where)
+			}
+		})
+	}
+}
+
+// A table out of order, a row without marks and other bad cells give one
+// error line each: the table listed downstream first is one error at its
+// first offending row, naming the order wanted.
+func TestReachErrorLines(t *testing.T) {
+	const head = "section,survey,distance,ws_left,ws_right\n"
+	for _, tc := range []struct {
+		name, reach string
+		want        error
+		lines       []string // the error's lines, in order
+	}{
+		{"no marks", head + "A,a.csv,0,,\nB,a.csv,10,9.9,\n", ErrNoHighWaterMark,
+			[]string{"reach.csv:2:4: ws_left: give a high-water mark in ws_left or ws_right"}},
+		{"no marks, blank cells", head + "A,a.csv,0,\" \",\"\"\nB,a.csv,10,9.9,\n", ErrNoHighWaterMark,
+			[]string{"reach.csv:2:4: ws_left: give a high-water mark in ws_left or ws_right"}},
+		{"downstream first", head + "C,a.csv,300,9.7,\nB,a.csv,150,9.8,\nA,a.csv,0,9.9,\n", ErrDistanceOrder,
+			[]string{"reach.csv:3:3: distance \"150\": distances must increase downstream, row by row (150 after 300): " +
+				"the table lists its sections downstream first; list the upstream section first"}},
+		{"two sections downstream first", head + "B,a.csv,150,9.8,\nA,a.csv,0,9.9,\n", ErrDistanceOrder,
+			[]string{"reach.csv:3:3: distance \"0\": distances must increase downstream, row by row (0 after 150): " +
+				"the table lists its sections downstream first; list the upstream section first"}},
+		{"one row out of order", head + "A,a.csv,0,9.9,\nB,a.csv,200,9.8,\nC,a.csv,100,9.7,\nD,a.csv,300,9.6,\n", ErrDistanceOrder,
+			[]string{"reach.csv:4:3: distance \"100\": distances must increase downstream, row by row (100 after 200)"}},
+		{"rows out of order among other errors", head + "A,a.csv,0,9.9,\nB,a.csv,200,,\nC,a.csv,100,9.7,\nD,a.csv,50,9.6,\nE,,400,9.5,\n",
+			ErrDistanceOrder, []string{
+				"reach.csv:3:4: ws_left: give a high-water mark in ws_left or ws_right",
+				"reach.csv:4:3: distance \"100\": distances must increase downstream, row by row (100 after 200; 2 rows out of order)",
+				"reach.csv:6:2: survey: the section needs a survey (a file, or a sheet of this workbook)"}},
+		{"equal distances", head + "A,a.csv,0,9.9,\nB,a.csv,0,9.8,\n", ErrDistanceOrder,
+			[]string{"reach.csv:3:3: distance \"0\": distances must increase downstream, row by row (0 after 0)"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": tc.reach, "a.csv": reachSurveyCSV})
+			_, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
+			if !errors.Is(err, tc.want) {
+				t.Fatalf("err = %v, want %v", err, tc.want)
+			}
+			got := strings.Split(err.Error(), "\n")
+			for i := range got {
+				got[i] = strings.TrimPrefix(got[i], dir+string(filepath.Separator))
+			}
+			if !slices.Equal(got, tc.lines) {
+				t.Errorf("error lines:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(tc.lines, "\n"))
 			}
 		})
 	}
@@ -310,6 +361,54 @@ func TestReachBackwaterErrors(t *testing.T) {
 			}
 			if !strings.Contains(err.Error(), tc.where) {
 				t.Errorf("err = %v, want position %s", err, tc.where)
+			}
+		})
+	}
+}
+
+// The structure column: blank and the open-channel words mean no
+// structure, the structure words are refused by OpenChannel, and any other
+// word is refused at its cell when the table is read.
+func TestReachStructureWords(t *testing.T) {
+	const head = "section,survey,distance,structure\n"
+	for _, tc := range []struct {
+		cell  string
+		read  error  // from reading the table
+		open  error  // from OpenChannel
+		where string // position of the error
+	}{
+		{"", nil, nil, ""},
+		{"no", nil, nil, ""},
+		{"None", nil, nil, ""},
+		{"0", nil, nil, ""},
+		{" FALSE ", nil, nil, ""},
+		{"bridge", nil, ErrStructure, "reach.csv:3:4"},
+		{"Culvert", nil, ErrStructure, "reach.csv:3:4"},
+		{"weir", nil, ErrStructure, "reach.csv:3:4"},
+		{"dam", nil, ErrStructure, "reach.csv:3:4"},
+		{"yes", nil, ErrStructure, "reach.csv:3:4"},
+		{"1", nil, ErrStructure, "reach.csv:3:4"},
+		{"true", nil, ErrStructure, "reach.csv:3:4"},
+		{"footbridge deck", ErrStructureWord, nil, "reach.csv:3:4: structure \"footbridge deck\": structure must be one of bridge, culvert"},
+		{"n", ErrStructureWord, nil, "reach.csv:3:4"},
+		{"-", ErrStructureWord, nil, "reach.csv:3:4"},
+	} {
+		t.Run(tc.cell, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"reach.csv": head + "A,a.csv,0,\nB,a.csv,10,\"" + tc.cell + "\"\n", "a.csv": reachSurveyCSV})
+			r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{MarksOptional: true})
+			if !errors.Is(err, tc.read) || (err == nil) != (tc.read == nil) {
+				t.Fatalf("read: %v, want %v", err, tc.read)
+			}
+			if err == nil {
+				if err = r.OpenChannel(); !errors.Is(err, tc.open) || (err == nil) != (tc.open == nil) {
+					t.Fatalf("open channel: %v, want %v", err, tc.open)
+				}
+				if want := strings.TrimSpace(tc.cell); tc.open == nil && r.Rows[1].Structure != "" || tc.open != nil && r.Rows[1].Structure != want {
+					t.Errorf("structure %q, want %q", r.Rows[1].Structure, want)
+				}
+			}
+			if err != nil && !strings.Contains(err.Error(), tc.where) {
+				t.Errorf("err = %v, want %s", err, tc.where)
 			}
 		})
 	}

@@ -305,9 +305,11 @@ func SuggestedCoordinateMarks() []string {
 	return []string{MarkLeftPin, MarkRightPin, MarkBank, "thalweg", "water edge", "high-water mark"}
 }
 
-// suggestedStructures returns the words offered in the reach sheet's structure
-// column; any text there marks a structure.
-func suggestedStructures() []string { return []string{"bridge", "culvert", "weir"} }
+// suggestedStructures returns the words offered in the reach sheet's
+// structure column: the kinds of structure of StructureWords and "none"
+// (the reader takes the other words of StructureWords and
+// OpenChannelWords too).
+func suggestedStructures() []string { return []string{"bridge", "culvert", "weir", "dam", "none"} }
 
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
@@ -328,7 +330,7 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("main channel")},
 		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("right overbank")},
 		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(suggestedStructures(), false, ""),
-			Help: "blank for an open channel; name a structure at the section (bridge, culvert, weir): wetline refuses to compute flow through it"},
+			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: wetline refuses to compute flow through it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
@@ -382,7 +384,8 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
 			"on each bank from the high-water marks (for a slope-area reach); quality: " + strings.Join(rating.QualityWords(), ", ") + ". " +
 			"left_length, channel_length, right_length: lengths of the flow paths along the left overbank, the channel and the right overbank to the next section " +
-			"(blank: the distance between the sections). structure: blank for an open channel; flow through a bridge, culvert or weir is refused, not approximated."},
+			"(blank: the distance between the sections). structure: blank, " + strings.Join(OpenChannelWords(), ", ") + " for an open channel; " + strings.Join(StructureWords(), ", ") +
+			" for a section at a structure (flow through a structure is refused, not approximated)."},
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
 			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + "); " +
 			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +

@@ -7,6 +7,7 @@ import (
 	"image/png"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -176,6 +177,66 @@ func TestBackwaterJSONKeys(t *testing.T) {
 	}
 }
 
+// The README's table of JSON keys gives the backwater report's keys, and
+// those of its rating, exactly in the order the command writes them.
+func TestReadmeBackwaterJSONKeys(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "backwater", bwPlain(t), "--discharges", "12", "--boundary", "critical", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	keys := func(data []byte) []string {
+		dec := json.NewDecoder(bytes.NewReader(data))
+		dec.Token()
+		var ks []string
+		for dec.More() {
+			tok, _ := dec.Token()
+			ks = append(ks, tok.(string))
+			var skip json.RawMessage
+			dec.Decode(&skip)
+		}
+		return ks
+	}
+	var doc struct{ Rating json.RawMessage }
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	var row string
+	for _, line := range strings.Split(readme(t), "\n") {
+		if strings.HasPrefix(line, "| backwater |") {
+			row = line
+		}
+	}
+	cells := strings.Split(row, "|")
+	if len(cells) < 4 {
+		t.Fatalf("README has no backwater row in its table of outputs: %q", row)
+	}
+	// The JSON cell: `report keys`; in `rating`: `rating keys` (...).
+	quoted := regexp.MustCompile("`([^`]*)`").FindAllStringSubmatch(cells[3], -1)
+	list := func(i int) []string {
+		if i >= len(quoted) {
+			return nil
+		}
+		var ks []string
+		for _, k := range strings.Split(quoted[i][1], ",") {
+			ks = append(ks, strings.TrimSuffix(strings.TrimSpace(k), "[]"))
+		}
+		return ks
+	}
+	for _, c := range []struct {
+		what   string
+		data   []byte
+		readme []string
+	}{
+		{"report", []byte(out), list(0)},
+		{"rating", doc.Rating, list(2)},
+	} {
+		if got := keys(c.data); !slices.Equal(got, c.readme) {
+			t.Errorf("%s keys written %q, README says %q", c.what, got, c.readme)
+		}
+	}
+}
+
 // Mistakes in the command line exit 2, bad data exit 1, each with one
 // clear message, and a failed run writes nothing: neither the report nor
 // a figure.
@@ -209,8 +270,10 @@ func TestBackwaterRefusals(t *testing.T) {
 		// A stage is held to ±1e5 as every stage flag is (survey.MaxElevation).
 		{"implausible stage", "", []string{"--discharges", "5", "--boundary", "stage:1e9"}, 2, "--boundary stage:1e9 is beyond ±100000: not a plausible stage"},
 		{"stage below the bed", "", []string{"--discharges", "5", "--boundary", "stage:99"}, 1, "not above its lowest ground"},
-		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
-			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": the section is at a structure"},
+		{"bridge", head + ",structure\nXS-2,tallow-xs2.csv,0,no\nXS-1,tallow-xs1.csv,140,Bridge\nXS-3,tallow-xs3.csv,300,none",
+			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"Bridge\": the section is at a structure"},
+		{"unknown structure word", head + ",structure\nXS-2,tallow-xs2.csv,0,\nXS-1,tallow-xs1.csv,140,footbridge deck\nXS-3,tallow-xs3.csv,300,",
+			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:3:4: structure \"footbridge deck\": structure must be one of bridge, culvert, weir, dam, yes, true, 1"},
 		{"bad flow length", head + ",channel_length\nXS-2,tallow-xs2.csv,0,-140\nXS-1,tallow-xs1.csv,140,\nXS-3,tallow-xs3.csv,300,",
 			[]string{"--discharges", "5", "--boundary", "critical"}, 1, "reach.csv:2:4: channel_length \"-140\""},
 		{"distance order", head + "\nXS-2,tallow-xs2.csv,0\nXS-1,tallow-xs1.csv,0\nXS-3,tallow-xs3.csv,300",

@@ -20,6 +20,17 @@ import (
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
 	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--all-pools] [--no-extend] [--format text|json|xlsx] [-o FILE]"
 
+// minDraws is the fewest Monte Carlo draws slopearea takes for a band:
+// with 100 draws five lie beyond each of the 5th and 95th percentiles
+// (common practice; more draws steady the band).
+const minDraws = 100
+
+// maxNCV is the largest coefficient of variation of Manning's n slopearea
+// takes: drawn log-normal about its median, a CV of 1 already puts the
+// 5th to 95th percentiles of n at about a quarter to four times the
+// median (exp(±1.645·√ln 2)); more is a slip, not a judgement of n.
+const maxNCV = 1.0
+
 // slopeAreaFlags are the settings of a slope-area computation.
 type slopeAreaFlags struct {
 	sheet, units, side string
@@ -43,10 +54,11 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.StringVar(&f.units, "units", "si", unitsUsage)
 	fs.StringVar(&f.side, "side", "mean", "water surface from the mean of both marks, or from the left or right mark only")
 	fs.Float64Var(&f.markSpread, "mark-spread", math.NaN(), "warn when a section's left and right marks differ by more (default 0.15 m or 0.5 ft)")
-	fs.IntVar(&f.draws, "draws", reach.DefaultDraws, "Monte Carlo draws for the uncertainty band (0: none)")
+	fs.IntVar(&f.draws, "draws", reach.DefaultDraws, fmt.Sprintf("Monte Carlo draws for the uncertainty band: 0 for none, else %d or more "+
+		"(fewer leave too few draws beyond the 5th and 95th percentiles)", minDraws))
 	fs.Uint64Var(&f.seed, "seed", 1, "random seed of the Monte Carlo draws")
-	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none)")
-	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides; 0: none)")
+	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none; at most 1)")
+	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides it where rated, and the report warns when every section is rated; 0: none)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
 	fs.BoolVar(&f.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
 	connectedFlag(fs)
@@ -73,10 +85,10 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 		return opt, usageError{err: err}
 	}
 	switch {
-	case f.draws < 0 || f.draws > reach.MaxDraws:
-		return opt, usagef("slopearea: --draws %d: want 0 to %d", f.draws, reach.MaxDraws)
-	case f.nCV < 0:
-		return opt, usagef("slopearea: --n-cv %v: want 0 or more", f.nCV)
+	case f.draws < 0 || f.draws > reach.MaxDraws || f.draws > 0 && f.draws < minDraws:
+		return opt, usagef("slopearea: --draws %d: want 0 (no band) or %d to %d", f.draws, minDraws, reach.MaxDraws)
+	case f.nCV < 0 || f.nCV > maxNCV:
+		return opt, usagef("slopearea: --n-cv %v: want 0 to %g (a coefficient of variation of n above %g is not plausible)", f.nCV, maxNCV, maxNCV)
 	case f.markSD < 0:
 		return opt, usagef("slopearea: --mark-sd %v: want 0 or more", f.markSD)
 	case f.slope < 0:

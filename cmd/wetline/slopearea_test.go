@@ -104,6 +104,13 @@ func TestSlopeAreaBadReach(t *testing.T) {
 		{"bad side", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--side", "middle"}, 2, "side"},
 		{"slope with a reach", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--slope", "0.001"}, 2, "--slope"},
 		{"negative draws", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "-1"}, 2, "--draws"},
+		{"one draw", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "1"}, 2, "--draws 1: want 0 (no band) or 100 to"},
+		{"too few draws", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "99"}, 2, "--draws 99"},
+		{"n-cv above 1", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--n-cv", "1.5"}, 2, "--n-cv 1.5: want 0 to 1"},
+		{"no marks on a row", head + "A,a.csv,0,,\nB,a.csv,100,10.9,\n", nil, 1, "reach.csv:2:4: ws_left: give a high-water mark in ws_left or ws_right"},
+		{"listed downstream first", head + "C,a.csv,200,10.8,\nB,a.csv,100,10.9,\nA,a.csv,0,11,\n", nil, 1,
+			"reach.csv:3:3: distance \"100\": distances must increase downstream, row by row (100 after 200): the table lists its sections downstream first"},
+		{"survey outside the folder", head + "A,a.csv,0,11,\nB,../a.csv,100,10.9,\n", nil, 1, "give --surveys-anywhere to allow it"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := t.TempDir()
@@ -289,5 +296,33 @@ func TestSlopeAreaUnitsFromSurveys(t *testing.T) {
 	}
 	if _, errs, code := runCLI(t, "slopearea", filepath.Join(dir, "reach.csv"), "--units", "si"); code != 1 || !strings.Contains(errs, "si units were asked for") {
 		t.Errorf("--units si with surveys in ft: exit %d: %s", code, errs)
+	}
+}
+
+// --mark-sd given while every section of the demo reach has a quality is
+// not used: the report says so (and the console warns); the default and
+// --mark-sd 0 (no spread, which overrides the qualities) give no such
+// warning.
+func TestSlopeAreaMarkSDUnused(t *testing.T) {
+	t.Parallel()
+	const unused = "the standard deviation of a mark given (0.05 m) is not used"
+	for _, tc := range []struct {
+		flags  []string
+		warned bool
+	}{
+		{nil, false},
+		{[]string{"--mark-sd", "0.05"}, true},
+		{[]string{"--mark-sd", "0"}, false},
+	} {
+		t.Run(strings.Join(tc.flags, " "), func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, append([]string{"slopearea", "demodata/reach-brindle.csv", "--draws", "200"}, tc.flags...)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if got := strings.Contains(out, "  - "+unused); got != tc.warned {
+				t.Errorf("report warns %v, want %v:\n%s", got, tc.warned, out)
+			}
+		})
 	}
 }

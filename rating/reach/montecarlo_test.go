@@ -208,3 +208,40 @@ func BenchmarkMonteCarlo5000Parallel(b *testing.B) {
 		}
 	}
 }
+
+// Estimate warns that a mark standard deviation given is not used when
+// every section's quality sets its own, and only then: not for the
+// default, not for none (which overrides the qualities), not when a
+// section is unrated, not without draws.
+func TestEstimateMarkSDUnused(t *testing.T) {
+	const unused = "the standard deviation of a mark given (0.05 m) is not used: every section's quality rating sets that of its own marks"
+	good, _ := rating.Good.MarkSD(rating.SI)
+	for _, tc := range []struct {
+		name   string
+		rated  int // how many sections, from the first, have a quality
+		markSD float64
+		draws  int
+		warned bool
+	}{
+		{"given, all rated", 3, 0.05, 200, true},
+		{"given, one unrated", 2, 0.05, 200, false},
+		{"given, none rated", 0, 0.05, 200, false},
+		{"default, all rated", 3, 0, 200, false},
+		{"none, all rated", 3, -1, 200, false},
+		{"given, all rated, no draws", 3, 0.05, 0, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := saThreeSections(t)
+			for i := range tc.rated {
+				secs[i].Quality, secs[i].MarkSD = rating.Good, good
+			}
+			rep, err := Estimate(secs, EstimateOptions{Draws: tc.draws, MonteCarlo: MonteCarloOptions{Seed: 1, MarkSD: tc.markSD}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if got := slices.Contains(rep.Warnings, unused); got != tc.warned {
+				t.Errorf("warned %v, want %v: %q", got, tc.warned, rep.Warnings)
+			}
+		})
+	}
+}

@@ -49,12 +49,29 @@ var ErrSlopeForReach = errors.New("a slope is only for a reach of one section (t
 // draw in a hundred).
 const FailedDrawsWarn = 0.01
 
+// markSDUnused returns a warning when a standard deviation of the marks
+// was given (mc.MarkSD > 0) but every section's quality sets its own
+// (Section.MarkSD > 0), so that the one given is not used; "" otherwise.
+func markSDUnused(secs []Section, mc MonteCarloOptions, u rating.Units) string {
+	if !(mc.MarkSD > 0) {
+		return ""
+	}
+	for _, s := range secs {
+		if !(s.MarkSD > 0) {
+			return ""
+		}
+	}
+	return fmt.Sprintf("the standard deviation of a mark given (%g %s) is not used: every section's quality rating sets that of its own marks",
+		mc.MarkSD, u.Length())
+}
+
 // Estimate computes the flood peak of a reach: with one section and a
 // slope, the slope-conveyance estimate Q = K·√S (SlopeConveyance), with
 // no uncertainty analysis (a warning says so when opt.Draws > 0); with
 // two or more, the slope-area estimate of all subreaches together
 // (SolveSlopeArea) and, when opt.Draws > 0, its Monte Carlo uncertainty
-// (MonteCarlo). The report's Name, Provenance and Figures are left for the
+// (MonteCarlo; a warning says when the mark standard deviation given is
+// not used because every section's quality sets its own). The report's Name, Provenance and Figures are left for the
 // caller. Errors are those of the methods, a *SectionError where one
 // section is at fault, ErrTooFewSections for one section without a slope,
 // or ErrSlopeForReach.
@@ -100,6 +117,9 @@ func Estimate(secs []Section, opt EstimateOptions) (Report, error) {
 		return rep, err
 	}
 	rep.Uncertainty = &un
+	if w := markSDUnused(secs, mc, opt.SlopeArea.Units); w != "" {
+		rep.Warnings = append(rep.Warnings, w)
+	}
 	if float64(un.Failed) > FailedDrawsWarn*float64(un.Draws) {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf(
 			"%d of %d Monte Carlo draws had no solution (a section dry or no fall): the band leaves them out", un.Failed, un.Draws))

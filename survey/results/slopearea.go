@@ -216,11 +216,50 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	switch r.Method {
 	case reach.MethodSlopeArea:
 		t.line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
-		t.line("  subreaches    %s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+		t.line("  subreaches    %s", saSubreachWords(r))
 		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
 		t.line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
+}
+
+// saSubreachWords says what the subreaches give each alone: the range of
+// their discharges and its spread when every one solves, else which
+// solved (with its discharge) and which have no real discharge alone.
+func saSubreachWords(r reach.SlopeArea) string {
+	Q := r.Units.Discharge()
+	var solved, failed []string
+	for _, sr := range r.Subreaches {
+		if math.IsNaN(sr.Discharge) {
+			failed = append(failed, sr.From+" to "+sr.To)
+		} else {
+			solved = append(solved, fmt.Sprintf("%s to %s %s %s", sr.From, sr.To, sig(sr.Discharge, 4), Q))
+		}
+	}
+	switch {
+	case len(failed) == 0:
+		return fmt.Sprintf("%s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+	case len(solved) == 0:
+		return fmt.Sprintf("none has a real discharge alone (%s): only the whole reach gives one", strings.Join(failed, ", "))
+	}
+	verb := "solve"
+	if len(solved) == 1 {
+		verb = "solves"
+	}
+	return fmt.Sprintf("%d of %d %s alone: %s; no real discharge alone: %s", len(solved), len(r.Subreaches), verb,
+		strings.Join(solved, ", "), strings.Join(failed, ", "))
+}
+
+// saFailedSubreaches lists the subreaches with no real discharge alone
+// ("XS-1 to XS-2, ...").
+func saFailedSubreaches(r reach.SlopeArea) string {
+	var failed []string
+	for _, sr := range r.Subreaches {
+		if math.IsNaN(sr.Discharge) {
+			failed = append(failed, sr.From+" to "+sr.To)
+		}
+	}
+	return strings.Join(failed, ", ")
 }
 
 // saTextInputs writes the reach table as read: each section's distance,

@@ -95,6 +95,9 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("least subreach discharge", num(workbook.FormatSig3, r.SubreachMin), Q)
 		add("greatest subreach discharge", num(workbook.FormatSig3, r.SubreachMax), Q)
 		add("subreach spread", num("0.0", 100*r.SubreachSpread), "% of the peak")
+		if failed := saFailedSubreaches(r); failed != "" {
+			add("no real discharge alone", failed, "")
+		}
 	default:
 		add("method", "single-section slope-conveyance Q = K·√S with an assumed slope: a weaker method, no measured fall", "")
 		add("slope assumed", num("0.######", r.Slope), L+"/"+L)
