@@ -45,6 +45,9 @@ type Table struct {
 	Rows []Row
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
+	// Kind names what the table is when its source says so and Slope
+	// does not (e.g. a fitted rating), for labels; "" when unknown.
+	Kind string
 }
 
 // MaxDefaultRows bounds the row count DefaultStages aims for.
