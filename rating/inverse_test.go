@@ -1,6 +1,7 @@
 package rating
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strconv"
@@ -565,5 +566,82 @@ func TestDatumTerm(t *testing.T) {
 		if got := DatumTerm(tc.d); got != tc.want {
 			t.Errorf("DatumTerm(%g) = %q, want %q", tc.d, got, tc.want)
 		}
+	}
+}
+
+// TestConduitFallingBranchWords checks the words for the two branches of
+// a circular pipe, 0.6 m across, n 0.013, slope 0.005: the discharge
+// flowing just full is Q = (1/n)·A·R^(2/3)·√S with A = πD²/4, R = D/4
+// (Manning's equation, Chow 1959, eq. 5-7), computed here, and the
+// greatest part-full discharge lies at 0.938 of the diameter (from
+// memory). A discharge between the two is carried at two normal stages,
+// a smaller one at one; the rating table flags the stages above the peak
+// and says the crown closes, while a compound section rated without
+// subdivision (the case of TestConveyanceDropFlag) keeps the words about
+// bank stations and n.
+func TestConduitFallingBranchWords(t *testing.T) {
+	const d, n, s = 0.6, 0.013, 0.005
+	full := math.Pi * d * d / 4 * math.Pow(d/4, 2.0/3) * math.Sqrt(s) / n
+	pipe := mustShape(t, "circle:diameter=0.6", n)
+	nan := math.NaN()
+	crown := []string{"as the crown closes", "0.938 of the height", fmt.Sprintf("%.4g m3/s (flowing just full)", full)}
+	for _, tc := range []struct {
+		name       string
+		q          float64
+		want, lack []string
+	}{
+		{"two stages", 0.45, append([]string{"2 normal stages carry 0.45 m3/s", "on the rising branch", "on the falling branch"}, crown...),
+			[]string{"does not grow steadily"}},
+		{"one stage", 0.3, nil, []string{"normal stages carry", "crown closes"}},
+	} {
+		t.Run("solve "+tc.name, func(t *testing.T) {
+			rep, err := Answer(pipe, Query{Discharge: tc.q, Area: nan, Stage: nan}, Options{Slope: s})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(rep.Warnings, "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("warnings %q lack %q", rep.Warnings, w)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(text, w) {
+					t.Errorf("warnings %q say %q", rep.Warnings, w)
+				}
+			}
+		})
+	}
+	compound := compile(t, subdivide.Section{
+		Points: subdivide.XZ(0, 4, 0, 2, 100, 2, 100, 0, 110, 0, 110, 2, 210, 2, 210, 4),
+		N:      []float64{0.04, 0.04, 0.04, 0.04, 0.04, 0.04, 0.04},
+	})
+	for _, tc := range []struct {
+		name       string
+		g          subdivide.Geometry
+		stages     []float64
+		want, lack []string
+	}{
+		{"pipe", pipe, []float64{0.3, 0.5, 0.56, 0.58, 0.6}, []string{"at 2 stage(s), from 0.5800 m up to the crown at 0.6000 m", "as the crown closes",
+			"0.938 of its diameter 0.6 m", fmt.Sprintf("%.4g m3/s (flowing just full)", full)}, []string{"bank stations"}},
+		{"compound", compound, []float64{1.9, 2.0, 2.05, 2.1, 3.5}, []string{"the subdivision may not suit the section; check bank stations and n"}, []string{"crown"}},
+	} {
+		t.Run("table "+tc.name, func(t *testing.T) {
+			tab, err := Compute(tc.g, tc.stages, Options{Slope: s})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(tab.Warnings, "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("warnings %q lack %q", tab.Warnings, w)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(text, w) {
+					t.Errorf("warnings %q say %q", tab.Warnings, w)
+				}
+			}
+		})
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"wetline/subdivide"
 )
@@ -138,12 +139,34 @@ func (sol *Solution) solveNormal(g subdivide.Geometry, s *solver, opt Options) e
 		sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
 		sol.Warnings = append(sol.Warnings, aboveEndWarning("normal stage", r.Stage, row.ExtendedLeft, row.ExtendedRight, u)...)
 	}
-	if len(roots) > 1 {
+	switch {
+	case len(roots) > 1 && sol.Closed:
+		sol.Warnings = append(sol.Warnings, pipeBranchesWarning(sol, roots, u))
+	case len(roots) > 1:
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf(
 			"discharge does not grow steadily with stage here: %d normal stages carry %g %s; on a falling branch a higher stage carries less",
 			len(roots), q, u.Discharge()))
 	}
 	return nil
+}
+
+// pipeBranchesWarning words the warning for a discharge carried at more
+// than one normal stage in a closed conduit: its conveyance, and with it
+// the discharge at the slope, is greatest at the solution's PeakStage
+// (about 0.94 of the diameter in a circular pipe) and falls above it as
+// the crown closes, so every discharge between the full-flow one and the
+// greatest has a stage on each side of the peak.
+func pipeBranchesWarning(sol *Solution, roots []Root, u Units) string {
+	L, Q := u.Length(), u.Discharge()
+	stages := make([]string, len(roots))
+	for i, r := range roots {
+		stages[i] = fmt.Sprintf("%.4f %s on the %s branch", r.Stage, L, r.Branch())
+	}
+	return fmt.Sprintf("%d normal stages carry %g %s, %s: the conduit's conveyance, and with it the discharge at slope %g, is greatest at stage %.4f %s "+
+		"(%.3f of the height; %.4g %s) and falls above it as the crown closes (the wetted perimeter grows faster than the area), "+
+		"so every discharge between %.4g %s (flowing just full) and %.4g %s is carried at one stage below %.4f %s and one above",
+		len(roots), sol.Discharge, Q, strings.Join(stages, " and "), sol.Slope, sol.PeakStage, L,
+		(sol.PeakStage-sol.Bottom)/(sol.Top-sol.Bottom), sol.PeakDischarge, Q, sol.FullDischarge, Q, sol.PeakDischarge, Q, sol.PeakStage, L)
 }
 
 // solveCritical fills the critical stages of the solution's discharge
