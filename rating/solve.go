@@ -26,7 +26,29 @@ type CriticalRoot struct {
 	// Alpha is the energy coefficient at the stage; Energy the specific
 	// energy of the discharge there (length unit).
 	Alpha, Energy float64
+	// Extremum says what the specific energy does at the stage:
+	// EnergyMinimum or EnergyMaximum where it is lower or higher there
+	// than ExtremumProbe of the depth below and above, else
+	// EnergyNoExtremum (α changing with stage moves the extremum off the
+	// stage where the Froude number is 1).
+	Extremum string
+	// Least reports the critical stage at which the specific energy is
+	// least (Solution.MinEnergy lies within ExtremumProbe of the depth).
+	Least bool
 }
+
+// What the specific energy does at a critical stage (CriticalRoot.Extremum).
+const (
+	EnergyMinimum    = "minimum"
+	EnergyMaximum    = "maximum"
+	EnergyNoExtremum = "none"
+)
+
+// ExtremumProbe is the distance below and above a critical stage, as a
+// fraction of its depth, at which the specific energy is compared with
+// that at the stage to tell a local minimum or maximum: a hundred times
+// DepthTolerance, so that the error of the stage cannot decide.
+const ExtremumProbe = 1e-4
 
 // Solution gathers what is known of one discharge in one section.
 type Solution struct {
@@ -43,8 +65,11 @@ type Solution struct {
 	Normal []NormalRoot
 	// Critical holds every critical stage, ascending.
 	Critical []CriticalRoot
-	// MinEnergy is the least specific energy and its stage.
-	MinEnergy EnergyPoint
+	// MinEnergy is the least specific energy and its stage; EnergyMinima
+	// every local minimum of specific energy, ascending (see
+	// SpecificEnergyMinima).
+	MinEnergy    EnergyPoint
+	EnergyMinima []EnergyPoint
 	// Closed reports a closed conduit; then FullDischarge is its discharge
 	// flowing just full and PeakDischarge (at PeakStage) the largest it
 	// carries part full, both at Slope (NaN without a slope).
@@ -100,8 +125,12 @@ func Solve(g subdivide.Geometry, q float64, opt Options) (Solution, error) {
 	if err := sol.solveCritical(g, &s, opt); err != nil {
 		return sol, err
 	}
-	if sol.MinEnergy, err = MinSpecificEnergy(g, sol.Discharge, opt); err != nil {
+	if sol.MinEnergy, sol.EnergyMinima, err = scanSpecificEnergy(g, sol.Discharge, opt); err != nil {
 		return sol, err
+	}
+	for i := range sol.Critical {
+		c := &sol.Critical[i]
+		c.Least = math.Abs(c.Stage-sol.MinEnergy.Stage) <= ExtremumProbe*c.Depth
 	}
 	return sol, nil
 }
@@ -186,13 +215,45 @@ func (sol *Solution) solveCritical(g subdivide.Geometry, s *solver, opt Options)
 		if err != nil {
 			return err
 		}
-		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e})
+		ext, err := energyExtremum(s, c, e, q)
+		if err != nil {
+			return err
+		}
+		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e, Extremum: ext})
 		sol.Warnings = append(sol.Warnings, aboveEndWarning("critical stage", c.Stage, row.ExtendedLeft, row.ExtendedRight, opt.Units)...)
 	}
 	if len(crit) > 1 {
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf("%d critical stages: the section is compound, so flow can pass through critical more than once", len(crit)))
 	}
 	return nil
+}
+
+// energyExtremum tells whether the specific energy e of q at critical
+// root c is a local minimum, a local maximum or neither, against the
+// energy ExtremumProbe of the depth below and above.
+func energyExtremum(s *solver, c Root, e, q float64) (string, error) {
+	d := ExtremumProbe * c.Depth
+	below, err := s.energy(c.Stage-d, q)
+	if err != nil {
+		return "", err
+	}
+	up := c.Stage + d
+	if closed, err := s.closed(); err != nil {
+		return "", err
+	} else if closed {
+		up = math.Min(up, s.g.Top()) // no stage above the crown
+	}
+	above, err := s.energy(up, q)
+	if err != nil {
+		return "", err
+	}
+	switch {
+	case below > e && above > e:
+		return EnergyMinimum, nil
+	case below < e && above < e:
+		return EnergyMaximum, nil
+	}
+	return EnergyNoExtremum, nil
 }
 
 // aboveEndWarning warns, when left or right (the heights of the walls
