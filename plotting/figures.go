@@ -58,8 +58,9 @@ func (s *figureSet) add(kind, caption string, draw func(w io.Writer) (Result, er
 }
 
 // DrawRating draws the rating, cross-section (with a ground line) and
-// properties figures of a rating table. A table without geometry columns
-// has no properties figure (said in a warning).
+// properties figures of a rating table, its curve named by TableLabel. A
+// table without geometry columns has no properties figure (said in a
+// warning).
 func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: in.Base}
 	t := in.Table
@@ -69,7 +70,7 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 			t.Slope, strings.ToUpper(t.Units.String()), sub)
 	}
 	rp := RatingPlot{Site: in.Site, Section: t.Name, Subtitle: strings.TrimSuffix(sub, "; "), Units: t.Units,
-		Hydraulic: CurveFromTable(t, ""), Size: in.Size}
+		Hydraulic: CurveFromTable(t, TableLabel(t)), Size: in.Size}
 	if !math.IsNaN(in.ZeroFlow) {
 		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
 	}
@@ -103,6 +104,19 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 		set.warnings = append(set.warnings, "no properties figure: "+err.Error())
 	}
 	return set.figs, set.warnings, nil
+}
+
+// TableLabel names a rating table's curve by what the table is: a
+// hydraulic rating by Manning's equation when it has a friction slope,
+// else its Kind, else neutrally a rating table.
+func TableLabel(t rating.Table) string {
+	switch {
+	case t.Slope > 0:
+		return "hydraulic rating (Manning)"
+	case t.Kind != "":
+		return t.Kind
+	}
+	return "rating table"
 }
 
 // waterSurfaces are the lines of a rating's section figure, in

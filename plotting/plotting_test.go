@@ -344,3 +344,23 @@ func referenceDir(t *testing.T) string {
 	}
 	return dir
 }
+
+// TestTableLabel checks that a rating table's curve is named by what the
+// table is: Manning's only for a table with a friction slope (a
+// uniform-flow rating), its kind when it has one, else neutrally.
+func TestTableLabel(t *testing.T) {
+	for _, tc := range []struct {
+		name  string
+		table rating.Table
+		want  string
+	}{
+		{"uniform flow", rating.Table{Slope: 0.0012}, "hydraulic rating (Manning)"},
+		{"fitted", rating.Table{Slope: math.NaN(), Kind: "fitted rating"}, "fitted rating"},
+		{"step-backwater, no single slope", rating.Table{Slope: math.NaN()}, "rating table"},
+		{"stage and discharge only", rating.Table{}, "rating table"},
+	} {
+		if got := plotting.TableLabel(tc.table); got != tc.want {
+			t.Errorf("%s: label %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}

@@ -44,6 +44,8 @@ type PropertiesPlot struct {
 	// subdivide.Section.Bankfull.
 	Bankfull    float64
 	HasBankfull bool
+	// Caution is the line at the foot; "" gives DefaultCaution.
+	Caution string
 	// Size is the pixel size (zero value: the default).
 	Size Size
 }
@@ -64,9 +66,9 @@ func PropertiesFromTable(t rating.Table) []PropertyRow {
 // stage are left out; a NaN value breaks its panel's line, and a panel
 // whose values are all undefined is left out with a warning. With a
 // finite bankfull stage, the overbank zone above it is shaded and
-// bankfull marked on every panel. The error wraps ErrNoData when no row
-// has a stage or no property a defined value, and ErrSize or ErrDraw when
-// the figure cannot be drawn.
+// bankfull marked on every panel. The caution is at the foot. The error
+// wraps ErrNoData when no row has a stage or no property a defined value,
+// and ErrSize or ErrDraw when the figure cannot be drawn.
 func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 	var res Result
 	un := names(pp.Units)
@@ -96,7 +98,8 @@ func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 			p.Y.Label.Text = "Stage, " + un.length
 		}
 	}
-	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: pp.subtitle(un)}
+	fig := figure{title: titleOf(pp.Site, pp.Section, "hydraulic properties against stage"), subtitle: pp.subtitle(un),
+		foot: []string{orDefault(pp.Caution, DefaultCaution)}, footColor: colCaution}
 	err := render(w, pp.Size, fig, func(c draw.Canvas) error {
 		tiles := draw.Tiles{Rows: nrows, Cols: cols, PadX: vg.Points(16), PadY: vg.Points(14)}
 		for i, p := range panels {

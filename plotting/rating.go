@@ -183,7 +183,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
 		subtitle:  r.Subtitle,
 		foot:      append(append([]string(nil), r.Notes...), caution),
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+		footColor: colCaution,
 	}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {
 		drawRow(c, panels, vg.Points(22))

@@ -45,6 +45,8 @@ type SectionPlot struct {
 	// Geometry says which pools count and whether ends are extended, as
 	// for the rating (see subdivide.Options); shading follows it.
 	Geometry subdivide.Options
+	// Caution is the last line at the foot; "" gives DefaultCaution.
+	Caution string
 	// Size is the pixel size (zero value: the default).
 	Size Size
 }
@@ -57,8 +59,8 @@ var exaggerationSteps = []float64{1, 1.5, 2, 2.5, 3, 4, 5, 6, 8}
 // line with its points, the subsection dividers labelled with their n,
 // the bank stations, the thalweg and the water surfaces, the wetted area
 // of each surface with Shade filled and its area, top width and wetted
-// perimeter stated at the foot. Stations and elevations are in the length
-// unit of s.Units. The elevation axis is widened so that the vertical
+// perimeter stated at the foot above the caution. Stations and elevations
+// are in the length unit of s.Units. The elevation axis is widened so that the vertical
 // exaggeration is a round number, stated under the station axis. A water
 // surface without a finite stage or at or below the lowest ground is left
 // out with a warning. The error names the section when it does not
@@ -101,7 +103,8 @@ func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 	p.X.Padding, p.Y.Padding = 0, 0
 	p.X.Tick.Marker, p.Y.Tick.Marker = linearTicks{}, linearTicks{}
 
-	fig := figure{title: titleOf(s.Site, s.Section.Name, "cross-section"), subtitle: s.subtitle(len(subs), low, un), foot: foot}
+	fig := figure{title: titleOf(s.Site, s.Section.Name, "cross-section"), subtitle: s.subtitle(len(subs), low, un),
+		foot: append(foot, orDefault(s.Caution, DefaultCaution)), footColor: colCaution}
 	err = render(w, s.Size, fig, func(c draw.Canvas) error {
 		setExaggeration(p, c)
 		p.Draw(c)

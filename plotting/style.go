@@ -114,6 +114,7 @@ var (
 	colDivider   = color.NRGBA{R: 0x8a, G: 0x93, B: 0x9a, A: 0xff}
 	colOverbank  = color.NRGBA{R: 0xf2, G: 0xe6, B: 0xc8, A: 0x80} // above-bankfull zone
 	colEnergy    = color.NRGBA{R: 0xb0, G: 0x3a, B: 0x2e, A: 0xff} // energy grade line
+	colCaution   = color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff} // the caution at the foot
 )
 
 // series is the look of one of several sections drawn together.

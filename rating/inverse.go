@@ -490,33 +490,64 @@ func (s solver) energy(h, q float64) (float64, error) {
 //	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 3-2
 //	(specific energy and critical depth).
 func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoint, error) {
+	best, _, err := scanSpecificEnergy(g, q, opt)
+	return best, err
+}
+
+// SpecificEnergyMinima returns every local minimum of the specific energy
+// of discharge q in g, in stage order, found as MinSpecificEnergy finds
+// them (a scan of the range up to the highest critical stage, doubled in
+// depth, each local minimum refined by golden-section search). Where α is
+// constant each lies at a critical stage; where α changes with stage (a
+// compound section) a minimum can lie off every critical stage, since
+// dE/dh = 1 − α·Q²·T/(g·A³) − (Q²/2gA²)·dα/dh. Errors are those of
+// MinSpecificEnergy.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 3-2
+//	(specific energy and critical depth).
+//	Blalock, M.E., and Sturm, T.W., 1981, Minimum specific energy in
+//	compound open channel: Journal of the Hydraulics Division, ASCE,
+//	107(HY6) (cited from memory).
+func SpecificEnergyMinima(g subdivide.Geometry, q float64, opt Options) ([]EnergyPoint, error) {
+	_, minima, err := scanSpecificEnergy(g, q, opt)
+	return minima, err
+}
+
+// scanSpecificEnergy returns the least specific energy of q in g (see
+// MinSpecificEnergy) and the local minima the scan refined, in stage
+// order, one per minimum.
+func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoint, []EnergyPoint, error) {
 	crit, err := CriticalStages(g, q, opt)
 	if err != nil {
-		return EnergyPoint{}, err
+		return EnergyPoint{}, nil, err
 	}
 	s := newSolver(g, opt)
 	lo := s.g.Bottom()
 	hi := crit[len(crit)-1].Stage
 	hi = math.Min(lo+2*(hi-lo), math.Max(hi, s.g.Top()))
 	if closed, err := s.closed(); err != nil {
-		return EnergyPoint{}, err
+		return EnergyPoint{}, nil, err
 	} else if closed {
 		hi = math.Min(hi, s.g.Top())
 	}
 	e := func(h float64) (float64, error) { return s.energy(h, q) }
 	best := EnergyPoint{Energy: math.Inf(1)}
+	var minima []EnergyPoint
 	consider := func(h, v float64) {
 		if v < best.Energy {
 			best = EnergyPoint{Stage: h, Depth: h - lo, Energy: v}
 		}
 	}
+	step := (hi - lo) / ScanSteps
 	prev := make([]float64, 0, 3)
 	hs := make([]float64, 0, 3)
 	for i := 0; i <= ScanSteps; i++ {
 		h := lo + (hi-lo)*float64(i)/ScanSteps
 		v, err := e(h)
 		if err != nil {
-			return best, err
+			return best, minima, err
 		}
 		consider(h, v)
 		prev, hs = append(prev, v), append(hs, h)
@@ -524,9 +555,20 @@ func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoin
 			if prev[1] <= prev[0] && prev[1] <= prev[2] {
 				hm, vm, err := GoldenSection(e, hs[0], hs[2], false)
 				if err != nil {
-					return best, err
+					return best, minima, err
 				}
 				consider(hm, vm)
+				// A flat bottom can satisfy two overlapping triples:
+				// keep one point per minimum, the lower.
+				pt := EnergyPoint{Stage: hm, Depth: hm - lo, Energy: vm}
+				switch n := len(minima); {
+				case n > 0 && hm-minima[n-1].Stage <= 2*step:
+					if vm < minima[n-1].Energy {
+						minima[n-1] = pt
+					}
+				case !math.IsInf(vm, 0):
+					minima = append(minima, pt)
+				}
 			}
 			prev, hs = prev[1:], hs[1:]
 		}
@@ -534,11 +576,11 @@ func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoin
 	for _, c := range crit {
 		v, err := e(c.Stage)
 		if err != nil {
-			return best, err
+			return best, minima, err
 		}
 		consider(c.Stage, v)
 	}
-	return best, nil
+	return best, minima, nil
 }
 
 // Regime names the flow regime of a Froude number: "critical" within

@@ -1,6 +1,7 @@
 package rating
 
 import (
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"strconv"
@@ -565,5 +566,157 @@ func TestDatumTerm(t *testing.T) {
 		if got := DatumTerm(tc.d); got != tc.want {
 			t.Errorf("DatumTerm(%g) = %q, want %q", tc.d, got, tc.want)
 		}
+	}
+}
+
+// TestConduitFallingBranchWords checks the words for the two branches of
+// a circular pipe, 0.6 m across, n 0.013, slope 0.005: the discharge
+// flowing just full is Q = (1/n)·A·R^(2/3)·√S with A = πD²/4, R = D/4
+// (Manning's equation, Chow 1959, eq. 5-7), computed here, and the
+// greatest part-full discharge lies at 0.938 of the diameter (from
+// memory). A discharge between the two is carried at two normal stages,
+// a smaller one at one; the rating table flags the stages above the peak
+// and says the crown closes, while a compound section rated without
+// subdivision (the case of TestConveyanceDropFlag) keeps the words about
+// bank stations and n.
+func TestConduitFallingBranchWords(t *testing.T) {
+	const d, n, s = 0.6, 0.013, 0.005
+	full := math.Pi * d * d / 4 * math.Pow(d/4, 2.0/3) * math.Sqrt(s) / n
+	pipe := mustShape(t, "circle:diameter=0.6", n)
+	nan := math.NaN()
+	crown := []string{"as the crown closes", "0.938 of the height", fmt.Sprintf("%.4g m3/s (flowing just full)", full)}
+	for _, tc := range []struct {
+		name       string
+		q          float64
+		want, lack []string
+	}{
+		{"two stages", 0.45, append([]string{"2 normal stages carry 0.45 m3/s", "on the rising branch", "on the falling branch"}, crown...),
+			[]string{"does not grow steadily"}},
+		{"one stage", 0.3, nil, []string{"normal stages carry", "crown closes"}},
+	} {
+		t.Run("solve "+tc.name, func(t *testing.T) {
+			rep, err := Answer(pipe, Query{Discharge: tc.q, Area: nan, Stage: nan}, Options{Slope: s})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(rep.Warnings, "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("warnings %q lack %q", rep.Warnings, w)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(text, w) {
+					t.Errorf("warnings %q say %q", rep.Warnings, w)
+				}
+			}
+		})
+	}
+	compound := compile(t, subdivide.Section{
+		Points: subdivide.XZ(0, 4, 0, 2, 100, 2, 100, 0, 110, 0, 110, 2, 210, 2, 210, 4),
+		N:      []float64{0.04, 0.04, 0.04, 0.04, 0.04, 0.04, 0.04},
+	})
+	for _, tc := range []struct {
+		name       string
+		g          subdivide.Geometry
+		stages     []float64
+		want, lack []string
+	}{
+		{"pipe", pipe, []float64{0.3, 0.5, 0.56, 0.58, 0.6}, []string{"at 2 stage(s), from 0.5800 m up to the crown at 0.6000 m", "as the crown closes",
+			"0.938 of its diameter 0.6 m", fmt.Sprintf("%.4g m3/s (flowing just full)", full)}, []string{"bank stations"}},
+		{"compound", compound, []float64{1.9, 2.0, 2.05, 2.1, 3.5}, []string{"the subdivision may not suit the section; check bank stations and n"}, []string{"crown"}},
+	} {
+		t.Run("table "+tc.name, func(t *testing.T) {
+			tab, err := Compute(tc.g, tc.stages, Options{Slope: s})
+			if err != nil {
+				t.Fatal(err)
+			}
+			text := strings.Join(tab.Warnings, "\n")
+			for _, w := range tc.want {
+				if !strings.Contains(text, w) {
+					t.Errorf("warnings %q lack %q", tab.Warnings, w)
+				}
+			}
+			for _, w := range tc.lack {
+				if strings.Contains(text, w) {
+					t.Errorf("warnings %q say %q", tab.Warnings, w)
+				}
+			}
+		})
+	}
+}
+
+// TestCriticalStageExtremum checks what the specific energy is said to do
+// at each critical stage. In a rectangle 2 m wide carrying 5 m3/s the one
+// critical depth is yc = (q²/g)^(1/3) with q = 2.5 m2/s, and the least
+// specific energy 1.5·yc (Chow 1959, section 3-2 and eq. 3-11; g the
+// standard 9.80665 m/s2): a local minimum, the least. In a compound
+// section (channel 4 m wide and 2 m deep, floodplains 40 m wide at n
+// 0.06, carrying 20 m3/s) α jumps above the channel's banks, the
+// criterion α·Q²·T/(g·A³) = 1 holds at three stages and the specific
+// energy is extreme off the upper two: each stage labelled a minimum or
+// maximum must be one, each labelled neither must see the energy rise (or
+// fall) through it, and each listed local minimum must be lower than the
+// energy a centimetre either side (the definition, evaluated here).
+func TestCriticalStageExtremum(t *testing.T) {
+	const g = 9.80665
+	yc := math.Cbrt(2.5 * 2.5 / g)
+	compound := mustShape(t, "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", 0.03)
+	for _, tc := range []struct {
+		name      string
+		geom      subdivide.Geometry
+		q         float64
+		extrema   []string
+		least     []bool
+		minEnergy float64 // NaN: not checked against a closed form
+		minima    int
+	}{
+		{"rectangle", mustShape(t, "rectangle:width=2", 0.015), 5, []string{EnergyMinimum}, []bool{true}, 1.5 * yc, 1},
+		{"compound", compound, 20, []string{EnergyMinimum, EnergyNoExtremum, EnergyNoExtremum}, []bool{true, false, false}, math.NaN(), 2},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			sol, err := Solve(tc.geom, tc.q, Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(sol.Critical) != len(tc.extrema) || len(sol.EnergyMinima) != tc.minima {
+				t.Fatalf("%d critical stages, %d local minima; want %d and %d", len(sol.Critical), len(sol.EnergyMinima), len(tc.extrema), tc.minima)
+			}
+			energy := func(h float64) float64 {
+				e, err := SpecificEnergy(tc.geom, h, tc.q, Options{})
+				if err != nil {
+					t.Fatal(err)
+				}
+				return e
+			}
+			const probe = 0.01 // m, either side
+			for i, c := range sol.Critical {
+				if c.Extremum != tc.extrema[i] || c.Least != tc.least[i] {
+					t.Errorf("critical stage %g: %q, least %v; want %q, %v", c.Stage, c.Extremum, c.Least, tc.extrema[i], tc.least[i])
+				}
+				below, above := energy(c.Stage-probe), energy(c.Stage+probe)
+				switch c.Extremum {
+				case EnergyMinimum:
+					if !(below > c.Energy && above > c.Energy) {
+						t.Errorf("critical stage %g called a minimum: E %g, %g, %g", c.Stage, below, c.Energy, above)
+					}
+				case EnergyNoExtremum:
+					if (below-c.Energy)*(above-c.Energy) >= 0 {
+						t.Errorf("critical stage %g called no extremum: E %g, %g, %g", c.Stage, below, c.Energy, above)
+					}
+				}
+			}
+			for _, m := range sol.EnergyMinima {
+				if !(energy(m.Stage-probe) > m.Energy && energy(m.Stage+probe) > m.Energy) {
+					t.Errorf("local minimum %g m at %g m is not one", m.Energy, m.Stage)
+				}
+			}
+			if !math.IsNaN(tc.minEnergy) {
+				const closeEnergy = 1e-6 // relative
+				if math.Abs(sol.MinEnergy.Energy/tc.minEnergy-1) > closeEnergy || math.Abs(sol.EnergyMinima[0].Energy/tc.minEnergy-1) > closeEnergy {
+					t.Errorf("least specific energy %g, local minimum %g; want 1.5·yc = %g", sol.MinEnergy.Energy, sol.EnergyMinima[0].Energy, tc.minEnergy)
+				}
+			}
+		})
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"wetline/subdivide"
 )
@@ -25,7 +26,29 @@ type CriticalRoot struct {
 	// Alpha is the energy coefficient at the stage; Energy the specific
 	// energy of the discharge there (length unit).
 	Alpha, Energy float64
+	// Extremum says what the specific energy does at the stage:
+	// EnergyMinimum or EnergyMaximum where it is lower or higher there
+	// than ExtremumProbe of the depth below and above, else
+	// EnergyNoExtremum (α changing with stage moves the extremum off the
+	// stage where the Froude number is 1).
+	Extremum string
+	// Least reports the critical stage at which the specific energy is
+	// least (Solution.MinEnergy lies within ExtremumProbe of the depth).
+	Least bool
 }
+
+// What the specific energy does at a critical stage (CriticalRoot.Extremum).
+const (
+	EnergyMinimum    = "minimum"
+	EnergyMaximum    = "maximum"
+	EnergyNoExtremum = "none"
+)
+
+// ExtremumProbe is the distance below and above a critical stage, as a
+// fraction of its depth, at which the specific energy is compared with
+// that at the stage to tell a local minimum or maximum: a hundred times
+// DepthTolerance, so that the error of the stage cannot decide.
+const ExtremumProbe = 1e-4
 
 // Solution gathers what is known of one discharge in one section.
 type Solution struct {
@@ -42,8 +65,11 @@ type Solution struct {
 	Normal []NormalRoot
 	// Critical holds every critical stage, ascending.
 	Critical []CriticalRoot
-	// MinEnergy is the least specific energy and its stage.
-	MinEnergy EnergyPoint
+	// MinEnergy is the least specific energy and its stage; EnergyMinima
+	// every local minimum of specific energy, ascending (see
+	// SpecificEnergyMinima).
+	MinEnergy    EnergyPoint
+	EnergyMinima []EnergyPoint
 	// Closed reports a closed conduit; then FullDischarge is its discharge
 	// flowing just full and PeakDischarge (at PeakStage) the largest it
 	// carries part full, both at Slope (NaN without a slope).
@@ -99,8 +125,12 @@ func Solve(g subdivide.Geometry, q float64, opt Options) (Solution, error) {
 	if err := sol.solveCritical(g, &s, opt); err != nil {
 		return sol, err
 	}
-	if sol.MinEnergy, err = MinSpecificEnergy(g, sol.Discharge, opt); err != nil {
+	if sol.MinEnergy, sol.EnergyMinima, err = scanSpecificEnergy(g, sol.Discharge, opt); err != nil {
 		return sol, err
+	}
+	for i := range sol.Critical {
+		c := &sol.Critical[i]
+		c.Least = math.Abs(c.Stage-sol.MinEnergy.Stage) <= ExtremumProbe*c.Depth
 	}
 	return sol, nil
 }
@@ -138,12 +168,34 @@ func (sol *Solution) solveNormal(g subdivide.Geometry, s *solver, opt Options) e
 		sol.Normal = append(sol.Normal, NormalRoot{Root: r, Row: row, Regime: Regime(row.Froude)})
 		sol.Warnings = append(sol.Warnings, aboveEndWarning("normal stage", r.Stage, row.ExtendedLeft, row.ExtendedRight, u)...)
 	}
-	if len(roots) > 1 {
+	switch {
+	case len(roots) > 1 && sol.Closed:
+		sol.Warnings = append(sol.Warnings, pipeBranchesWarning(sol, roots, u))
+	case len(roots) > 1:
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf(
 			"discharge does not grow steadily with stage here: %d normal stages carry %g %s; on a falling branch a higher stage carries less",
 			len(roots), q, u.Discharge()))
 	}
 	return nil
+}
+
+// pipeBranchesWarning words the warning for a discharge carried at more
+// than one normal stage in a closed conduit: its conveyance, and with it
+// the discharge at the slope, is greatest at the solution's PeakStage
+// (about 0.94 of the diameter in a circular pipe) and falls above it as
+// the crown closes, so every discharge between the full-flow one and the
+// greatest has a stage on each side of the peak.
+func pipeBranchesWarning(sol *Solution, roots []Root, u Units) string {
+	L, Q := u.Length(), u.Discharge()
+	stages := make([]string, len(roots))
+	for i, r := range roots {
+		stages[i] = fmt.Sprintf("%.4f %s on the %s branch", r.Stage, L, r.Branch())
+	}
+	return fmt.Sprintf("%d normal stages carry %g %s, %s: the conduit's conveyance, and with it the discharge at slope %g, is greatest at stage %.4f %s "+
+		"(%.3f of the height; %.4g %s) and falls above it as the crown closes (the wetted perimeter grows faster than the area), "+
+		"so every discharge between %.4g %s (flowing just full) and %.4g %s is carried at one stage below %.4f %s and one above",
+		len(roots), sol.Discharge, Q, strings.Join(stages, " and "), sol.Slope, sol.PeakStage, L,
+		(sol.PeakStage-sol.Bottom)/(sol.Top-sol.Bottom), sol.PeakDischarge, Q, sol.FullDischarge, Q, sol.PeakDischarge, Q, sol.PeakStage, L)
 }
 
 // solveCritical fills the critical stages of the solution's discharge
@@ -163,13 +215,45 @@ func (sol *Solution) solveCritical(g subdivide.Geometry, s *solver, opt Options)
 		if err != nil {
 			return err
 		}
-		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e})
+		ext, err := energyExtremum(s, c, e, q)
+		if err != nil {
+			return err
+		}
+		sol.Critical = append(sol.Critical, CriticalRoot{Root: c, Alpha: row.Alpha, Energy: e, Extremum: ext})
 		sol.Warnings = append(sol.Warnings, aboveEndWarning("critical stage", c.Stage, row.ExtendedLeft, row.ExtendedRight, opt.Units)...)
 	}
 	if len(crit) > 1 {
 		sol.Warnings = append(sol.Warnings, fmt.Sprintf("%d critical stages: the section is compound, so flow can pass through critical more than once", len(crit)))
 	}
 	return nil
+}
+
+// energyExtremum tells whether the specific energy e of q at critical
+// root c is a local minimum, a local maximum or neither, against the
+// energy ExtremumProbe of the depth below and above.
+func energyExtremum(s *solver, c Root, e, q float64) (string, error) {
+	d := ExtremumProbe * c.Depth
+	below, err := s.energy(c.Stage-d, q)
+	if err != nil {
+		return "", err
+	}
+	up := c.Stage + d
+	if closed, err := s.closed(); err != nil {
+		return "", err
+	} else if closed {
+		up = math.Min(up, s.g.Top()) // no stage above the crown
+	}
+	above, err := s.energy(up, q)
+	if err != nil {
+		return "", err
+	}
+	switch {
+	case below > e && above > e:
+		return EnergyMinimum, nil
+	case below < e && above < e:
+		return EnergyMaximum, nil
+	}
+	return EnergyNoExtremum, nil
 }
 
 // aboveEndWarning warns, when left or right (the heights of the walls

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 
 	"wetline/subdivide"
@@ -45,6 +46,9 @@ type Table struct {
 	Rows []Row
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
+	// Kind names what the table is when its source says so and Slope
+	// does not (e.g. a fitted rating), for labels; "" when unknown.
+	Kind string
 }
 
 // MaxDefaultRows bounds the row count DefaultStages aims for.
@@ -202,8 +206,7 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 		}
 	}
 	if n := flagConveyanceDrops(t.Rows); n > 0 {
-		t.Warnings = append(t.Warnings, fmt.Sprintf(
-			"conveyance falls as the stage rises at %d stage(s) (flagged %s): the subdivision may not suit the section; check bank stations and n", n, FlagConveyanceDrop))
+		t.Warnings = append(t.Warnings, conveyanceDropWarning(g, t.Rows, n, opt))
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
@@ -259,6 +262,45 @@ func SortedStages(stages []float64) []float64 {
 // highest conveyance at any lower stage that is flagged; smaller falls are
 // round-off.
 const ConveyanceDropTolerance = 1e-9
+
+// conveyanceDropWarning words the warning for n rows flagged
+// FlagConveyanceDrop. In a circular conduit the fall is the crown closing:
+// the conveyance, and with it the discharge at the slope, is greatest at
+// the stage PeakDischarge finds (about 0.94 of the diameter) and falls
+// above it, the wetted perimeter growing faster than the area, so two
+// stages carry each discharge between the full-flow one and the greatest.
+// Elsewhere it is a sign that the subdivision does not suit the section.
+func conveyanceDropWarning(g subdivide.Geometry, rows []Row, n int, opt Options) string {
+	inner := g
+	if cg, ok := g.(*compositeGeometry); ok {
+		inner = cg.inner
+	}
+	c, pipe := inner.(*subdivide.Conduit)
+	if !pipe {
+		return fmt.Sprintf("conveyance falls as the stage rises at %d stage(s) (flagged %s): the subdivision may not suit the section; check bank stations and n",
+			n, FlagConveyanceDrop)
+	}
+	L, Q := opt.Units.Length(), opt.Units.Discharge()
+	from := math.Inf(1)
+	for _, r := range rows {
+		if slices.Contains(r.Flags, FlagConveyanceDrop) {
+			from = math.Min(from, r.Stage)
+		}
+	}
+	peak, between := "at about 0.94 of its diameter", "the full-flow discharge and the greatest"
+	h, q, err := PeakDischarge(g, opt)
+	if err == nil {
+		peak = fmt.Sprintf("at stage %.4f %s (%.3f of its diameter %g %s; %.4g %s at slope %g)",
+			h, L, (h-c.Bottom())/c.Diameter, c.Diameter, L, q, Q, opt.Slope)
+		if full, err := newSolver(g, opt).row(c.Top()); err == nil {
+			between = fmt.Sprintf("%.4g %s (flowing just full) and %.4g %s", full.Discharge, Q, q, Q)
+		}
+	}
+	return fmt.Sprintf("conveyance falls as the stage rises at %d stage(s), from %.4f %s up to the crown at %.4f %s (flagged %s): "+
+		"the pipe's conveyance is greatest %s and falls above it as the crown closes (the wetted perimeter grows faster than the area), "+
+		"so each discharge between %s is carried at two stages",
+		n, from, L, c.Top(), L, FlagConveyanceDrop, peak, between)
+}
 
 // flagConveyanceDrops flags rows whose conveyance is below that of a lower
 // stage, visiting rows in stage order; it returns how many were flagged.

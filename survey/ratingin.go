@@ -1,10 +1,12 @@
 package survey
 
 import (
+	"errors"
 	"fmt"
 	"io"
 	"math"
 	"path/filepath"
+	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -32,12 +34,36 @@ func ParseRatingCSV(r io.Reader, name string, u UnitChoice) (rating.Table, error
 	return RatingFromTable(t, u)
 }
 
+// ErrRatingStageOrder is the cause of a rating table whose stages do not
+// increase from row to row.
+var ErrRatingStageOrder = errors.New("stages of a rating table must increase from row to row")
+
+// KindFitted is the Kind of a rating table read with a rating fit's
+// columns (basis or extrapolated).
+const KindFitted = "fitted rating"
+
+// Tolerances of the friction slope read from a rating table. Its values
+// are written to six significant digits, so Q/K is good to about 1e-5 and
+// (Q/K)² to slopeRoundingTol; rows whose slopes spread by no more than
+// uniformSlopeTol share one slope (the friction slopes of a
+// step-backwater rating differ by percents).
+const (
+	slopeRoundingTol = 2e-5
+	uniformSlopeTol  = 1e-4
+)
+
 // RatingFromTable turns a table with the columns of RatingColumns and
 // ExtraRatingColumns into a rating table. Stage and discharge are
-// required in every row; every other column may be missing or blank
-// (NaN). Per-subsection columns are not read. Bottom is stage − depth
-// where a depth is given, else the lowest stage; Top is the highest
-// stage. Every bad cell is reported, each naming its row and column.
+// required in every row and the stages must increase from row to row
+// (ErrRatingStageOrder at the stage cell of a row that does not); every
+// other column may be missing or blank (NaN). Per-subsection columns are
+// not read. Bottom is stage − depth where a depth is given, else the
+// lowest stage; Top is the highest stage. Slope is the friction slope
+// (Q/K)² when at least two rows with flow and conveyance give the same one
+// (a uniform-flow table by Manning's equation, as rate writes), as the
+// shortest decimal within the table's rounding; else NaN. Kind is
+// KindFitted for a table with a rating fit's columns, else "". Every bad
+// cell is reported, each naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out := rating.Table{Name: sectionName(t), Units: choice.Units, Slope: math.NaN()}
 	out.Name = strings.TrimSuffix(out.Name, "-rating")
@@ -59,6 +85,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	cells := rowCells{t: t}
 	out.Bottom, out.Top = math.Inf(1), math.Inf(-1)
 	bottomFromDepth := false
+	last := math.NaN() // the stage of the row before, read or not
 	for _, rec := range t.Records {
 		opt := func(name string) float64 { return cells.optional(rec, name) }
 		r := rating.Row{
@@ -68,6 +95,14 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 			Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
 			Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
 			Beta: opt("beta"), ShearStress: opt("shear_stress"),
+		}
+		if !math.IsNaN(r.Stage) {
+			prev := last
+			last = r.Stage
+			if !math.IsNaN(prev) && !(r.Stage > prev) {
+				cells.errs = append(cells.errs, t.At(rec, cs, fmt.Errorf("%w (%g after %g)", ErrRatingStageOrder, r.Stage, prev)))
+				continue
+			}
 		}
 		if math.IsNaN(r.Stage) || math.IsNaN(r.Discharge) {
 			continue
@@ -86,11 +121,41 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if len(out.Rows) == 0 {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: ErrEmpty}
 	}
+	out.Slope = uniformSlope(out.Rows)
+	if t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0 {
+		out.Kind = KindFitted
+	}
 	if !bottomFromDepth && len(out.Rows) > 0 {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",
 			filepath.Base(t.File)))
 	}
 	return out, nil
+}
+
+// uniformSlope returns the friction slope (Q/K)² shared by every row with
+// a positive discharge and conveyance, when there are at least two and
+// their slopes agree within uniformSlopeTol, as the shortest decimal
+// within slopeRoundingTol of their mean; else NaN.
+func uniformSlope(rows []rating.Row) float64 {
+	lo, hi, sum, n := math.Inf(1), math.Inf(-1), 0.0, 0
+	for _, r := range rows {
+		if !(r.Discharge > 0 && r.Conveyance > 0) {
+			continue
+		}
+		s := (r.Discharge / r.Conveyance) * (r.Discharge / r.Conveyance)
+		lo, hi, sum, n = math.Min(lo, s), math.Max(hi, s), sum+s, n+1
+	}
+	if n < 2 || math.IsInf(sum, 0) || !(hi-lo <= uniformSlopeTol*lo) {
+		return math.NaN()
+	}
+	mean := sum / float64(n)
+	for digits := 1; digits < 17; digits++ {
+		v, _ := strconv.ParseFloat(strconv.FormatFloat(mean, 'g', digits, 64), 64)
+		if math.Abs(v-mean) <= slopeRoundingTol*mean {
+			return v
+		}
+	}
+	return mean
 }
 
 // rowCells reads the numbers of a table's rows, gathering every bad cell.

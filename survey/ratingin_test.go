@@ -19,6 +19,9 @@ func TestRatingFromTableErrors(t *testing.T) {
 		{"bad discharge", "stage,discharge\n1,x\n", `t.csv:2:2: discharge "x"`, ErrNotNumber},
 		{"bad optional", "stage,discharge,alpha\n1,2,1;2\n", `t.csv:2:3: alpha`, ErrNotNumber},
 		{"empty", "stage,discharge\n", "no data rows", ErrEmpty},
+		{"stage decreasing", "stage,discharge\n1,0\n2,1\n1.5,2\n", "t.csv:4:1: stage", ErrRatingStageOrder},
+		{"stage repeated", "stage,discharge\n1,0\n1,0\n2,1\n", "t.csv:3:1: stage", ErrRatingStageOrder},
+		{"stage decreasing in a later column", "discharge,stage\n0,2\n1,1\n", "t.csv:3:2: stage", ErrRatingStageOrder},
 	} {
 		_, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
 		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, tc.is) {
@@ -42,9 +45,12 @@ func FuzzParseRatingCSV(f *testing.F) {
 		if err != nil {
 			return
 		}
-		for _, r := range tab.Rows {
+		for i, r := range tab.Rows {
 			if math.IsNaN(r.Stage) || math.IsInf(r.Stage, 0) || math.IsNaN(r.Discharge) {
 				t.Fatalf("row with an undefined stage or discharge: %+v", r)
+			}
+			if i > 0 && !(r.Stage > tab.Rows[i-1].Stage) {
+				t.Fatalf("stage %g after %g accepted", r.Stage, tab.Rows[i-1].Stage)
 			}
 		}
 	})
@@ -61,5 +67,39 @@ func TestRatingTableUnits(t *testing.T) {
 	_, err = ParseRatingCSV(strings.NewReader(us), "t.csv", UnitChoice{Units: rating.SI, Given: true})
 	if !errors.Is(err, ErrUnitsDisagree) || !strings.Contains(err.Error(), "t.csv:1:1: stage (ft)") {
 		t.Errorf("feet table with si asked for: %v", err)
+	}
+}
+
+// TestRatingFromTableKind checks what a rating table read back says it
+// is. Conveyance is defined by Q = K·S^½ (Chow 1959, section 6-2, from
+// memory), so the rows of a uniform-flow table by Manning's equation give
+// one friction slope S = (Q/K)²; a step-backwater table's rows each have
+// their own. The uniform rows below are Q = K·√0.0012 written to six
+// significant digits, as rate writes them; the varying ones are the first
+// rows of a step-backwater table (invented).
+func TestRatingFromTableKind(t *testing.T) {
+	for _, tc := range []struct {
+		name, csv string
+		slope     float64 // NaN: none
+		kind      string
+	}{
+		{"uniform flow", "stage,conveyance,discharge\n100.3,0,0\n100.4,0.871846,0.0302016\n100.5,5.35796,0.185605\n101,92.2038,3.19403\n",
+			0.0012, ""},
+		{"friction slope varies", "stage,conveyance,discharge\n100.7915,42.4931,2\n100.9757,85.2777,4\n101.1163,129.367,6\n",
+			math.NaN(), ""},
+		{"one flowing row", "stage,conveyance,discharge\n100.3,0,0\n100.4,0.871846,0.0302016\n", math.NaN(), ""},
+		{"no conveyance", "stage,discharge\n1,0\n2,1\n", math.NaN(), ""},
+		{"fit table", "stage,discharge,extrapolated,basis\n0.4,0.036,true,fit below gaugings\n0.46,0.123,false,fit\n", math.NaN(), KindFitted},
+		{"rating period table", "stage,discharge,extrapolated\n0.4,0.036,false\n0.5,0.2,true\n", math.NaN(), KindFitted},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			tab, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !(tab.Slope == tc.slope || math.IsNaN(tab.Slope) && math.IsNaN(tc.slope)) || tab.Kind != tc.kind {
+				t.Errorf("slope %g kind %q, want %g %q", tab.Slope, tab.Kind, tc.slope, tc.kind)
+			}
+		})
 	}
 }

@@ -69,9 +69,11 @@ func SuggestedMarks() []string {
 }
 
 // Bounds of the template's numeric validation rules. They catch typing
-// slips (a missing decimal point), not unusual sites.
+// slips (a missing decimal point), not unusual sites. Elevations (ground,
+// high-water marks, gauge heights) are bounded by MaxElevation, the limit
+// the readers refuse beyond.
 const (
-	templateCoordMax = 1e6   // |station|, |elevation|, |distance| in m or ft
+	templateCoordMax = 1e6   // |station|, |distance| in m or ft
 	templateNMin     = 0.005 // lowest Manning's n accepted without a warning
 	templateNMax     = 1.0   // highest Manning's n accepted without a warning
 	excelSerialMax   = 2958465
@@ -271,7 +273,7 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-templateCoordMax), plainNumber(templateCoordMax))
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
-		{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "ground elevation above the gauge datum"},
+		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
 		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
 		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks(), false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
@@ -279,16 +281,29 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 	}
 }
 
+// elevationRule accepts an elevation in unit L within ±MaxElevation, the
+// bound ReadSection and ReadGaugings refuse beyond.
+func elevationRule(L, what string) *workbook.Rule {
+	return decimalRule(-MaxElevation, MaxElevation, true,
+		fmt.Sprintf("%s in %s between %s and %s, with a decimal point", what, L, plainNumber(-MaxElevation), plainNumber(MaxElevation)))
+}
+
+// elevationColumn is the elevation column of a cross-section or coordinate
+// sheet in unit L, with its prompt.
+func elevationColumn(L, help string) workbook.InputColumn {
+	return workbook.InputColumn{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15},
+		Rule: elevationRule(L, "an elevation on the survey's datum"), Help: help}
+}
+
 // coordinateSheetColumns are the columns of the coordinate sheet: a
 // survey by eastings and northings, read as ReadSection projects it.
 func coordinateSheetColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	grid := fmt.Sprintf("a grid coordinate in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
-	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-templateCoordMax), plainNumber(templateCoordMax))
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ColEasting, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid easting of the point"},
 		{Column: workbook.Column{Name: ColNorthing, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid northing of the point"},
-		{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "ground elevation above the gauge datum"},
+		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
 		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next point surveyed; blank repeats the value above"},
 		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedCoordinateMarks(), false, ""),
@@ -323,8 +338,8 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ReachColSection, Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
 		{Column: workbook.Column{Name: ReachColSurvey, Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
 		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
-		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the left bank"},
-		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "water-surface elevation from the high-water marks on the right bank"},
+		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the left bank"},
+		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the right bank"},
 		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: quality, Help: "how well the marks define the water surface"},
 		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("left overbank")},
 		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("main channel")},
@@ -345,8 +360,7 @@ func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ColGaugingTime, Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: excelSerialMax, Title: "check the date",
 			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
-		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000", Width: 12}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true,
-			fmt.Sprintf("a gauge height in %s, with a decimal point", L)), Help: "mean gauge height during the measurement"},
+		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000", Width: 12}, Rule: elevationRule(L, "a gauge height"), Help: "mean gauge height during the measurement"},
 		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
 			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
 		{Column: workbook.Column{Name: ColGaugingQuality, Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},

@@ -715,3 +715,53 @@ func TestTemplateReachColumns(t *testing.T) {
 		t.Errorf("structure: %v, want ErrStructure at J3", err)
 	}
 }
+
+// TestTemplateElevationRules checks that every elevation column of the
+// field workbook is validated to the bound the readers refuse beyond
+// (±MaxElevation), not a looser one, and that the prompts place
+// elevations on the survey's datum rather than a gauge datum.
+func TestTemplateElevationRules(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Sections: 1, Rows: 10})
+	f := openBook(t, path)
+	for _, tc := range []struct {
+		sheet, col string
+		prompt     string // wanted in the input prompt; "" when not checked
+	}{
+		{"XS-1", "B", "survey's datum"},
+		{survey.FieldSheetCoordinates, "C", "survey's datum"},
+		{survey.FieldSheetReach, "D", ""},
+		{survey.FieldSheetReach, "E", ""},
+		{survey.FieldSheetGaugings, "B", ""},
+	} {
+		t.Run(tc.sheet+"!"+tc.col, func(t *testing.T) {
+			dvs, err := f.GetDataValidations(tc.sheet)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var dv *excelize.DataValidation
+			for _, d := range dvs {
+				if strings.HasPrefix(d.Sqref, tc.col+strconv.Itoa(headerRow(tc.sheet)+1)+":") {
+					dv = d
+				}
+			}
+			if dv == nil {
+				t.Fatalf("no rule on column %s", tc.col)
+			}
+			lo, errLo := strconv.ParseFloat(dv.Formula1, 64)
+			hi, errHi := strconv.ParseFloat(dv.Formula2, 64)
+			if errLo != nil || errHi != nil || lo != -survey.MaxElevation || hi != survey.MaxElevation || !dv.ShowErrorMessage {
+				t.Errorf("rule %q to %q (error alert %v), want %g to %g", dv.Formula1, dv.Formula2, dv.ShowErrorMessage, -survey.MaxElevation, survey.MaxElevation)
+			}
+			if tc.prompt == "" {
+				return
+			}
+			if dv.Prompt == nil || !strings.Contains(*dv.Prompt, tc.prompt) || strings.Contains(*dv.Prompt, "gauge datum") {
+				p := "<none>"
+				if dv.Prompt != nil {
+					p = *dv.Prompt
+				}
+				t.Errorf("prompt %q, want it to say %q and not the gauge datum", p, tc.prompt)
+			}
+		})
+	}
+}

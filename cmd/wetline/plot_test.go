@@ -100,6 +100,14 @@ func TestPlotErrors(t *testing.T) {
 	if err := os.WriteFile(bad, []byte("stage,discharge\n1,2\n2,lots\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	down := filepath.Join(dir, "down.csv")
+	if err := os.WriteFile(down, []byte("stage,discharge\n1,0\n2,5\n1.5,3\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	same := filepath.Join(dir, "same.csv")
+	if err := os.WriteFile(same, []byte("discharge,stage\n0,1\n5,2\n5,2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		name   string
 		args   []string
@@ -110,6 +118,8 @@ func TestPlotErrors(t *testing.T) {
 		{"tiny figure", []string{"plot", bad, "--width", "10"}, true, "figure size"},
 		{"bad cell", []string{"plot", bad}, false, `bad.csv:3:2: discharge "lots"`},
 		{"missing file", []string{"plot", filepath.Join(dir, "none.csv")}, false, "none.csv"},
+		{"stage decreasing", []string{"plot", down}, false, `down.csv:4:1: stage "1.5"`},
+		{"stage repeated", []string{"plot", same}, false, `same.csv:4:2: stage "2"`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))

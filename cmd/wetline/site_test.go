@@ -70,7 +70,8 @@ func TestTemplateSite(t *testing.T) {
 	}
 }
 
-// Every results workbook names the site on its summary sheet.
+// Every results workbook names the site on its summary sheet and at the
+// head of every printed page (not the section key, when a site is known).
 func TestSiteInWorkbooks(t *testing.T) {
 	t.Parallel()
 	const site = "Heron Weir gauge"
@@ -93,6 +94,12 @@ func TestSiteInWorkbooks(t *testing.T) {
 		f, err := excelize.OpenFile(book)
 		if err != nil {
 			t.Fatal(err)
+		}
+		for _, sheet := range f.GetSheetList() {
+			hf, err := f.GetHeaderFooter(sheet)
+			if err != nil || !strings.HasPrefix(hf.OddHeader, "&Lwetline ") || !strings.Contains(hf.OddHeader, ": "+site+"&R") {
+				t.Errorf("%s: sheet %s: page header %q (%v), want the site", args[0], sheet, hf.OddHeader, err)
+			}
 		}
 		rows, err := f.GetRows("summary")
 		f.Close()

@@ -41,7 +41,7 @@ func TestSolveJSONContract(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &v); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"normal_stage", "normal_depth", "critical_stages", "froude", "regime", "caution"} {
+	for _, k := range []string{"normal_stage", "normal_depth", "critical_stages", "froude", "regime", "specific_energy_minima", "caution"} {
 		if _, ok := v[k]; !ok {
 			t.Errorf("JSON lacks %q", k)
 		}

@@ -36,7 +36,7 @@ const (
 //     their quality band marked);
 //   - plots: the pictures, when given.
 func WriteBackwaterWorkbook(w io.Writer, rep reach.BackwaterReport) error {
-	b := newBook("wetline step-backwater: " + bwReachName(rep))
+	b := newBook("step-backwater", rep.Provenance.Site, bwReachName(rep))
 	defer b.Close()
 	for _, write := range []func(*workbook.Book, reach.BackwaterReport) error{
 		writeBWSummary, writeBWRating, writeBWConvergence, writeBWProfiles, writeBWSubsections, writeBWVerification,

@@ -163,7 +163,7 @@ func writeTextEnd(bw *bufio.Writer, warnings []string) {
 // warnings, caution), comparison (RatingComparisonColumns() with units)
 // and plots.
 func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) error {
-	b := newBook("wetline compare: " + c.A + " and " + c.B)
+	b := newBook("compare", c.Provenance.Site, c.A+" and "+c.B)
 	defer b.Close()
 	u := c.Units
 	L, Q := u.Length(), u.Discharge()
@@ -309,7 +309,7 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 // workbook: summary, comparison (SectionComparisonColumns() with units)
 // and plots.
 func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) error {
-	b := newBook("wetline compare: " + c.A + " and " + c.B)
+	b := newBook("compare", c.Provenance.Site, c.A+" and "+c.B)
 	defer b.Close()
 	u := c.Units
 	L, A, K := u.Length(), u.Area(), u.Conveyance()

@@ -65,7 +65,7 @@ func fitLookupCells(r *gauged.Report) []LookupCell {
 //
 // Stages are gauge heights throughout.
 func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
-	b := newBook("wetline fit: " + r.Site)
+	b := newBook("fit", r.Provenance.Site, r.Site)
 	defer b.Close()
 	if err := writeFitSummary(b, r); err != nil {
 		return err

@@ -63,7 +63,7 @@ func CheckRatingWorkbook(stages, subs int) error {
 // Every table sheet is streamed, so memory stays bounded for any number of
 // rows.
 func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
-	b := newBook("wetline rating: " + rep.Table.Name)
+	b := newBook("rating", rep.Provenance.Site, rep.Table.Name)
 	defer b.Close()
 	if err := writeSummary(b, rep); err != nil {
 		return err
@@ -414,12 +414,29 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
 }
 
-// newBook starts a results workbook whose printed pages carry title at
-// the head and the caution at the foot.
-func newBook(title string) *workbook.Book {
+// newBook starts a results workbook of a kind of report ("rating",
+// "fit", ...) whose printed pages carry its title (BookTitle) at the head
+// and the caution at the foot.
+func newBook(kind string, site rating.Site, key string) *workbook.Book {
 	b := workbook.NewBook()
-	b.Title, b.Footer, b.Words = title, rating.Caution, true
+	b.Title, b.Footer, b.Words = BookTitle(kind, site, key), rating.Caution, true
 	return b
+}
+
+// BookTitle is the title printed at the head of every page of a results
+// workbook of a kind of report: "wetline KIND: " and the site's name when
+// one is known (given with --site or read from an input's site key), else
+// key (the section, reach or file the report is of); "wetline KIND" when
+// neither is known.
+func BookTitle(kind string, site rating.Site, key string) string {
+	title := "wetline " + kind
+	switch {
+	case site.Name != "":
+		return title + ": " + site.Name
+	case key != "":
+		return title + ": " + key
+	}
+	return title
 }
 
 // stagesWords says what a table's stages are.

@@ -585,3 +585,37 @@ func TestRatingSheetHeadersInWords(t *testing.T) {
 		t.Errorf("no flagged row in the demo table: the flags column is not checked")
 	}
 }
+
+// TestBookTitle checks the title at the head of a results workbook's
+// printed pages: the site's name when known, else the key of what the
+// report is of, and the same in a written rating workbook.
+func TestBookTitle(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		kind, key string
+		site      rating.Site
+		want      string
+	}{
+		{"site named", "rating", "tallow-xs1", rating.Site{Name: "Tallow Creek at Mill Lane"}, "wetline rating: Tallow Creek at Mill Lane"},
+		{"site id only", "rating", "tallow-xs1", rating.Site{ID: "0412"}, "wetline rating: tallow-xs1"},
+		{"no site", "slope-area", "reach-brindle", rating.Site{}, "wetline slope-area: reach-brindle"},
+		{"neither", "shifts", "", rating.Site{}, "wetline shifts"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			if got := results.BookTitle(tc.kind, tc.site, tc.key); got != tc.want {
+				t.Errorf("title %q, want %q", got, tc.want)
+			}
+			if tc.kind != "rating" {
+				return
+			}
+			coarse, _ := wbTallow(t)
+			f := writeResults(t, rating.RatingReport{Table: coarse, Provenance: rating.Provenance{Site: tc.site}})
+			for _, sheet := range f.GetSheetList() {
+				hf, err := f.GetHeaderFooter(sheet)
+				if err != nil || !strings.HasPrefix(hf.OddHeader, "&L"+tc.want+"&R") {
+					t.Errorf("%s: page header %q (%v), want %q", sheet, hf.OddHeader, err, tc.want)
+				}
+			}
+		})
+	}
+}

@@ -78,7 +78,7 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 	if err := CheckRecordWorkbook(len(res.Units), len(res.Daily), tables); err != nil {
 		return err
 	}
-	b := newBook("wetline record: " + res.Name)
+	b := newBook("record", res.Provenance.Site, res.Name)
 	defer b.Close()
 	steps := []func(*workbook.Book, *record.Result) error{writeRecordSummary}
 	if tables&DailyTable != 0 {

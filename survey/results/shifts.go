@@ -234,7 +234,7 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 //   - ratings and shifts: the periods' tables and the diagrams applied;
 //   - plots: the figures, when drawn.
 func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
-	b := newBook("wetline shifts")
+	b := newBook("shifts", c.Provenance.Site, "")
 	defer b.Close()
 	z := zoneOf(c.UTCOffset)
 	ps, ss := shiftInfoOf(c)

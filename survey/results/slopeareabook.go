@@ -40,7 +40,7 @@ const (
 //     sensitivities, when run;
 //   - plots: the pictures.
 func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
-	b := newBook("wetline slope-area: " + saReachName(rep))
+	b := newBook("slope-area", rep.Provenance.Site, saReachName(rep))
 	defer b.Close()
 	for _, write := range []func(*workbook.Book, reach.Report) error{
 		writeSASummary, writeSAInputs, writeSASections, writeSASubsections, writeSASubreaches, writeSAChecks, writeSAUncertainty,

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strings"
 
 	"wetline/rating"
 )
@@ -32,6 +33,15 @@ type solveCritical struct {
 	SpecificEnergy Float  `json:"specific_energy"`
 	Energy         string `json:"specific_energy_extremum"`
 	Jump           bool   `json:"jump"`
+	Least          bool   `json:"least_specific_energy"`
+}
+
+// solveEnergy is one local minimum of specific energy in the JSON of a
+// solve report.
+type solveEnergy struct {
+	Stage          Float `json:"stage"`
+	Depth          Float `json:"depth"`
+	SpecificEnergy Float `json:"specific_energy"`
 }
 
 // solveDischargeJSON is the JSON of a solve report for a discharge. Its
@@ -57,6 +67,7 @@ type solveDischargeJSON struct {
 	FullDischarge  Float             `json:"full_discharge"`
 	PeakDischarge  Float             `json:"peak_discharge"`
 	PeakStage      Float             `json:"peak_discharge_stage"`
+	EnergyMinima   []solveEnergy     `json:"specific_energy_minima"`
 	Warnings       []string          `json:"warnings"`
 	Caution        string            `json:"caution"`
 	Site           *jsonSite         `json:"site"`
@@ -101,8 +112,10 @@ func nullIfZero(v float64) Float {
 
 // WriteSolveJSON writes a solve report as one JSON object, by what was
 // asked: for a discharge {"normal_stage","normal_depth","critical_stages",
-// "critical_depths","froude","regime","section","units",...,"warnings",
-// "caution"}; for a flow area {"section","units","area","stage","depth",
+// "critical_depths","froude","regime","section","units",...,
+// "specific_energy_minima","warnings","caution"}, each entry of "critical"
+// saying what the specific energy does there ("minimum", "maximum" or
+// "none") and whether it is least there; for a flow area {"section","units","area","stage","depth",
 // "top_width","wetted_perimeter","hydraulic_radius","full","warnings",
 // "caution"}; for a stage {"section","units","stage","critical_discharge",
 // "slope","uniform_discharge","warnings","caution"}; each ends with "site"
@@ -137,7 +150,7 @@ func solveDischarge(rep rating.SolveReport, warnings []string) solveDischargeJSO
 		CriticalStages: []Float{}, CriticalDepths: []Float{},
 		Section: rep.Section, Units: UnitNames(s.Units), Discharge: Float(s.Discharge),
 		Slope: nullIfZero(s.Slope), Composite: rep.Composite.String(),
-		NormalStages: []solveNormal{}, Critical: []solveCritical{},
+		NormalStages: []solveNormal{}, Critical: []solveCritical{}, EnergyMinima: []solveEnergy{},
 		MinEnergyStage: Float(s.MinEnergy.Stage), MinEnergy: Float(s.MinEnergy.Energy),
 		ClosedConduit: s.Closed, FullDischarge: Float(s.FullDischarge),
 		PeakDischarge: Float(s.PeakDischarge), PeakStage: Float(s.PeakStage),
@@ -164,19 +177,30 @@ func solveDischarge(rep rating.SolveReport, warnings []string) solveDischargeJSO
 		out.CriticalDepths = append(out.CriticalDepths, Float(c.Depth))
 		out.Critical = append(out.Critical, solveCritical{
 			Stage: Float(c.Stage), Depth: Float(c.Depth), Alpha: Float(c.Alpha),
-			SpecificEnergy: Float(c.Energy), Energy: energyExtremum(c), Jump: c.Jump,
+			SpecificEnergy: Float(c.Energy), Energy: c.Extremum, Jump: c.Jump, Least: c.Least,
 		})
+	}
+	for _, m := range s.EnergyMinima {
+		out.EnergyMinima = append(out.EnergyMinima, solveEnergy{Stage: Float(m.Stage), Depth: Float(m.Depth), SpecificEnergy: Float(m.Energy)})
 	}
 	return out
 }
 
-// energyExtremum says whether specific energy has a minimum or a maximum
-// at a critical stage: a minimum where the Froude number falls through 1.
-func energyExtremum(c rating.CriticalRoot) string {
-	if c.Rising {
-		return "minimum"
+// criticalEnergyWords says what the specific energy does at a critical
+// stage: a local minimum (and whether the least), a local maximum, or
+// neither, where α changing with stage moves the extremum off the stage
+// at which the Froude number is 1.
+func criticalEnergyWords(c rating.CriticalRoot) string {
+	switch c.Extremum {
+	case rating.EnergyMinimum:
+		if c.Least {
+			return "a local minimum of specific energy, the least"
+		}
+		return "a local minimum of specific energy, not the least"
+	case rating.EnergyMaximum:
+		return "a local maximum of specific energy"
 	}
-	return "maximum"
+	return "not an extremum of specific energy: alpha changes with stage here, so the extremum lies off the stage where the Froude number is 1"
 }
 
 // WriteSolveText writes a solve report for a reader: the stages found,
@@ -236,14 +260,51 @@ func writeSolution(w *bufio.Writer, rep rating.SolveReport) {
 		if c.Jump {
 			jump = "; the Froude number jumps through 1 here as level ground is wetted all at once"
 		}
-		fmt.Fprintf(w, "critical stage %.4f %s (depth %.4f %s): alpha %.3f, specific energy %.4f %s (a %s%s)\n",
-			c.Stage, L, c.Depth, L, c.Alpha, c.Energy, L, energyExtremum(c), jump)
+		fmt.Fprintf(w, "critical stage %.4f %s (depth %.4f %s): alpha %.3f, specific energy %.4f %s (%s%s)\n",
+			c.Stage, L, c.Depth, L, c.Alpha, c.Energy, L, criticalEnergyWords(c), jump)
 	}
-	fmt.Fprintf(w, "least specific energy %.4f %s at stage %.4f %s\n", s.MinEnergy.Energy, L, s.MinEnergy.Stage, L)
+	least := ""
+	for _, c := range s.Critical {
+		if c.Least {
+			least = " (at the critical stage there)"
+		}
+	}
+	if !minimaAtCritical(s) {
+		parts := make([]string, len(s.EnergyMinima))
+		for i, m := range s.EnergyMinima {
+			parts[i] = fmt.Sprintf("%.4f %s at stage %.4f %s", m.Energy, L, m.Stage, L)
+		}
+		fmt.Fprintf(w, "local minima of specific energy: %s\n", strings.Join(parts, "; "))
+		if least == "" {
+			least = " (off the critical stages)"
+		}
+	}
+	fmt.Fprintf(w, "least specific energy %.4f %s at stage %.4f %s%s\n", s.MinEnergy.Energy, L, s.MinEnergy.Stage, L, least)
 	if s.Closed && s.Slope > 0 {
 		fmt.Fprintf(w, "conduit at slope %g: %.4g %s flowing just full; at most %.4g %s part full, at stage %.4f %s (%.3f of the height)\n",
 			s.Slope, s.FullDischarge, u.Discharge(), s.PeakDischarge, u.Discharge(), s.PeakStage, L, (s.PeakStage-s.Bottom)/(s.Top-s.Bottom))
 	}
+}
+
+// minimaAtCritical reports whether the solution's local minima of
+// specific energy are exactly its critical stages labelled local minima,
+// one each, so that a list of them would repeat those lines.
+func minimaAtCritical(s *rating.Solution) bool {
+	n := 0
+	for _, c := range s.Critical {
+		if c.Extremum != rating.EnergyMinimum {
+			continue
+		}
+		n++
+		found := false
+		for _, m := range s.EnergyMinima {
+			found = found || math.Abs(m.Stage-c.Stage) <= rating.ExtremumProbe*c.Depth
+		}
+		if !found {
+			return false
+		}
+	}
+	return n == len(s.EnergyMinima)
 }
 
 // compositeWords says how roughness was handled.
