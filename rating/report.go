@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
+	"sort"
 	"strings"
 
 	"wetline/subdivide"
@@ -241,7 +243,8 @@ func Hundredths(h float64) (int64, bool) {
 // round step giving about MaxDefaultRows rows. The zero value asks for
 // DefaultStages.
 type StageSpec struct {
-	// List holds explicit stages (length unit), any order.
+	// List holds explicit stages (length unit), any order: a table is
+	// laid out in increasing stage, repeats once.
 	List []float64
 	// From and To bound a range (length unit) when FromSet and ToSet.
 	From, To       float64
@@ -261,8 +264,9 @@ var ErrStageSpec = errors.New("give a list of stages or a range, not both")
 // end is its lowest point: it holds no water below its ends.
 var ErrNoLowPoint = errors.New("the section's lower end is its lowest point, so it holds no water below its ends: ask for stages above it (the ends are then extended with vertical walls)")
 
-// Stages returns the stages the spec asks for in geometry g: the list as
-// given, DefaultStages, or StageRange over the range with its defaults
+// Stages returns the stages the spec asks for in geometry g: the list
+// sorted into increasing stage with repeats dropped (a rating table's
+// stages increase from row to row), DefaultStages, or StageRange over the range with its defaults
 // filled. Errors wrap ErrStageSpec or ErrStages.
 func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 	ranged := s.FromSet || s.ToSet || s.Step != 0
@@ -275,7 +279,9 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 				return nil, fmt.Errorf("%w: %v is not a finite stage", ErrStages, h)
 			}
 		}
-		return append([]float64(nil), s.List...), nil
+		list := append([]float64(nil), s.List...)
+		sort.Float64s(list)
+		return slices.Compact(list), nil
 	}
 	if !ranged {
 		if !(g.Top() > g.Bottom()) {

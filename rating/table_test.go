@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
+	"slices"
 	"testing"
 
 	"wetline/rating"
@@ -116,5 +117,31 @@ func TestDefaultStagesNoLowPoint(t *testing.T) {
 	}
 	if st, err := (rating.StageSpec{List: []float64{1, 2}}).Stages(p); err != nil || len(st) != 2 {
 		t.Errorf("stages asked for: %v %v", st, err)
+	}
+}
+
+// A list of stages is laid out as a rating table is read: increasing from
+// row to row, each stage once, whatever order it was given in.
+func TestStageListOrdered(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 5, 10, 0, 20, 5), N: []float64{0.03, 0.03}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		list, want []float64
+	}{
+		{[]float64{1, 2, 3}, []float64{1, 2, 3}},
+		{[]float64{3, 1, 2}, []float64{1, 2, 3}},
+		{[]float64{2, 1, 2, 1}, []float64{1, 2}},
+		{[]float64{4}, []float64{4}},
+	} {
+		in := append([]float64(nil), c.list...)
+		got, err := (rating.StageSpec{List: c.list}).Stages(p)
+		if err != nil || !slices.Equal(got, c.want) {
+			t.Errorf("stages %v: %v %v, want %v", c.list, got, err, c.want)
+		}
+		if !slices.Equal(c.list, in) {
+			t.Errorf("stages %v: the spec's list was changed to %v", in, c.list)
+		}
 	}
 }

@@ -36,7 +36,7 @@ func (f *rateFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
-	fs.Var(&f.stages, "stages", "explicit stages, comma-separated (instead of --from/--to/--step)")
+	fs.Var(&f.stages, "stages", "explicit stages, comma-separated, in any order (the table lists them increasing, each once; instead of --from/--to/--step)")
 	fs.StringVar(&f.format, "format", "", "output format: csv, json, text (aligned columns to read on screen) or xlsx (a results workbook with figures); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
