@@ -69,14 +69,14 @@ func SuggestedMarks() []string {
 }
 
 // Bounds of the template's numeric validation rules. They catch typing
-// slips (a missing decimal point), not unusual sites. Elevations (ground,
-// high-water marks, gauge heights) are bounded by MaxElevation, the limit
-// the readers refuse beyond.
+// slips (a missing decimal point), not unusual sites. Stations, distances
+// and flow lengths are bounded by MaxCoordinate and elevations (ground,
+// high-water marks, gauge heights) by MaxElevation, the limits the readers
+// refuse beyond, so that every survey the readers take can be prefilled.
 const (
-	templateCoordMax = 1e6   // |station|, |distance| in m or ft
-	templateNMin     = 0.005 // lowest Manning's n accepted without a warning
-	templateNMax     = 1.0   // highest Manning's n accepted without a warning
-	excelSerialMax   = 2958465
+	templateNMin   = 0.005 // lowest Manning's n accepted without a warning
+	templateNMax   = 1.0   // highest Manning's n accepted without a warning
+	excelSerialMax = 2958465
 )
 
 // WriteTemplate writes a blank field workbook to w: cross-section sheets
@@ -270,9 +270,9 @@ func listRule(items []string, strict bool, msg string) *workbook.Rule {
 
 func sectionColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
-	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-templateCoordMax), plainNumber(templateCoordMax))
+	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
+		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
 		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
 		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
@@ -328,8 +328,8 @@ func suggestedStructures() []string { return []string{"bridge", "culvert", "weir
 
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
-	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
-	length := fmt.Sprintf("a flow length in %s, zero or more, with a decimal point", L)
+	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
+	length := fmt.Sprintf("a flow length in %s, from 0 to %s, with a decimal point", L, plainNumber(MaxCoordinate))
 	lengthHelp := func(path string) string {
 		return "length of the flow path along the " + path + " to the next section downstream; blank: the distance between the sections"
 	}
@@ -337,15 +337,15 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ReachColSection, Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
 		{Column: workbook.Column{Name: ReachColSurvey, Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
-		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-templateCoordMax, templateCoordMax, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
+		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
 		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the left bank"},
 		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the right bank"},
 		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: quality, Help: "how well the marks define the water surface"},
-		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("left overbank")},
-		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("main channel")},
-		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, templateCoordMax, true, length), Help: lengthHelp("right overbank")},
+		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("left overbank")},
+		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("main channel")},
+		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("right overbank")},
 		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(suggestedStructures(), false, ""),
-			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: wetline refuses to compute flow through it"},
+			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: backwater refuses to compute flow through it and slopearea warns of it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }

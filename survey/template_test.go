@@ -765,3 +765,50 @@ func TestTemplateElevationRules(t *testing.T) {
 		})
 	}
 }
+
+// The template's station, distance and flow-length rules take every value
+// the readers take (±MaxCoordinate), so a survey the readers accept, such
+// as one on projected stations of 1 500 000 m, can be prefilled without
+// breaking its own sheet's rules.
+func TestTemplateCoordinateRules(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Sections: 1, Rows: 10})
+	f := openBook(t, path)
+	for _, tc := range []struct {
+		sheet, col string
+		lo, hi     float64
+	}{
+		{"XS-1", "A", -survey.MaxCoordinate, survey.MaxCoordinate},
+		{survey.FieldSheetReach, "C", -survey.MaxCoordinate, survey.MaxCoordinate},
+		{survey.FieldSheetReach, "G", 0, survey.MaxCoordinate},
+		{survey.FieldSheetReach, "H", 0, survey.MaxCoordinate},
+		{survey.FieldSheetReach, "I", 0, survey.MaxCoordinate},
+	} {
+		t.Run(tc.sheet+"!"+tc.col, func(t *testing.T) {
+			dvs, err := f.GetDataValidations(tc.sheet)
+			if err != nil {
+				t.Fatal(err)
+			}
+			var dv *excelize.DataValidation
+			for _, d := range dvs {
+				if strings.HasPrefix(d.Sqref, tc.col+strconv.Itoa(headerRow(tc.sheet)+1)+":") {
+					dv = d
+				}
+			}
+			if dv == nil {
+				t.Fatalf("no rule on column %s", tc.col)
+			}
+			lo, errLo := strconv.ParseFloat(dv.Formula1, 64)
+			hi, errHi := strconv.ParseFloat(dv.Formula2, 64)
+			if errLo != nil || errHi != nil || lo != tc.lo || hi != tc.hi {
+				t.Errorf("rule %q to %q, want %g to %g", dv.Formula1, dv.Formula2, tc.lo, tc.hi)
+			}
+			if dv.Error == nil || !strings.Contains(*dv.Error, "100000000") {
+				msg := "<none>"
+				if dv.Error != nil {
+					msg = *dv.Error
+				}
+				t.Errorf("error message %q does not give the bound", msg)
+			}
+		})
+	}
+}
