@@ -89,12 +89,17 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	}
 	if len(applied) > 0 {
 		sort.Slice(applied, func(i, j int) bool { return applied[i].X < applied[j].X })
-		l, s, err := plotter.NewLinePoints(applied)
-		if err == nil {
+		for k, run := range splitAt(applied, shiftBreaks(c)) {
+			l, s, err := plotter.NewLinePoints(run)
+			if err != nil {
+				continue
+			}
 			l.LineStyle = lineStyle(colWater, 1.2, vg.Points(4), vg.Points(2))
 			s.GlyphStyle = draw.GlyphStyle{Color: colWater, Radius: vg.Points(2.2), Shape: draw.BoxGlyph{}}
 			p.Add(l, s)
-			p.Legend.Add("shift applied by the diagrams at the gauging", l, s)
+			if k == 0 {
+				p.Legend.Add("shift applied by the diagrams at the gauging", l, s)
+			}
 		}
 	}
 	addGaugingPoints(p, pts, true)
@@ -116,6 +121,44 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 		return nil
 	})
 	return res, err
+}
+
+// shiftBreaks returns the times (Unix seconds) at which the applied shift
+// does not run on from the gauging before: the start of each rating period
+// after the first, where the shifts of the rating before end, and each
+// abrupt diagram, which takes effect at once instead of being prorated.
+func shiftBreaks(c *gauged.ShiftCheck) []float64 {
+	var out []float64
+	for i, pd := range c.History.Periods {
+		if i > 0 && !pd.From.IsZero() {
+			out = append(out, float64(pd.From.Unix()))
+		}
+	}
+	for _, d := range c.History.Shifts {
+		if d.Abrupt && !d.Time.IsZero() {
+			out = append(out, float64(d.Time.Unix()))
+		}
+	}
+	return out
+}
+
+// splitAt splits points sorted by X into runs that no break crosses: a
+// new run starts at a point when a break lies after the point before it
+// and at or before the point itself, so a line joins only points between
+// which the applied shift runs on.
+func splitAt(pts plotter.XYs, breaks []float64) []plotter.XYs {
+	var runs []plotter.XYs
+	start := 0
+	for i := 1; i < len(pts); i++ {
+		for _, b := range breaks {
+			if pts[i-1].X < b && b <= pts[i].X {
+				runs = append(runs, pts[start:i])
+				start = i
+				break
+			}
+		}
+	}
+	return append(runs, pts[start:])
 }
 
 // offsetName names a fixed offset as ISO 8601 writes it.
