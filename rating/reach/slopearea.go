@@ -656,8 +656,9 @@ func saCheckList(res *SlopeArea) []Check {
 		cs = append(cs, Check{Name: "sections in the reach", Value: float64(n), Limit: MinSections, Relation: "≥",
 			Pass: n >= MinSections, Source: srcSections})
 		cs = append(cs, saFallChecks(res)...)
+		first, last := res.Sections[0].Distance, res.Sections[n-1].Distance
 		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
-			Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
+			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: srcLength})
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
@@ -683,7 +684,7 @@ func saCheckList(res *SlopeArea) []Check {
 		}
 		d := math.Abs(s.Left - s.Right)
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
-			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
+			Pass: d <= res.MarkSpread+roundOffSlack(s.Left, s.Right), Source: srcMarks})
 	}
 	return cs
 }
@@ -697,15 +698,35 @@ func saFallChecks(res *SlopeArea) []Check {
 	for _, sr := range res.Subreaches {
 		hv := math.Max(res.Sections[sr.FromIndex].VelocityHead, res.Sections[sr.ToIndex].VelocityHead)
 		limit := math.Max(res.MinFall, hv)
+		slack := roundOffSlack(res.Sections[sr.FromIndex].WaterSurface, res.Sections[sr.ToIndex].WaterSurface)
 		cs = append(cs, Check{Name: "fall " + sr.From + " to " + sr.To, Value: sr.Fall, Limit: limit, Relation: "≥",
-			Pass: sr.Fall >= limit, Source: srcPairFall})
+			Pass: sr.Fall >= limit-slack, Source: srcPairFall})
 	}
 	return cs
 }
 
-// MarkSpreadEpsilon is the relative slack given to the mark-spread
-// tolerance so that a spread equal to it in the written decimals passes.
+// MarkSpreadEpsilon is the relative slack given to a mark's band when a
+// computed departure from the mark is compared with it, so that a
+// departure equal to the band in the written decimals lies inside.
 const MarkSpreadEpsilon = 1e-9
+
+// RoundOffRelative is the round-off allowed when a difference of two
+// inputs of the same kind (a fall or a mark spread from elevations, a
+// length from distances) is compared with its limit, relative to the
+// larger magnitude of the two: the difference is computed in binary from
+// decimals, so 50.94 − 50.79 comes out as 0.14999999999999147 and would
+// fail a limit of 0.15 it meets in the written figures. Double precision
+// carries about 1.1e-16 of a value, and the subtraction keeps the error of
+// its operands, so a few times 1e-16 of the larger magnitude is round-off;
+// 1e-9 of it stays far above that and far below any survey's resolution
+// (1e-9 of a 10 000 m elevation is 0.01 mm).
+const RoundOffRelative = 1e-9
+
+// roundOffSlack returns the round-off allowed in a difference of a and b:
+// RoundOffRelative of the larger of |a| and |b|.
+func roundOffSlack(a, b float64) float64 {
+	return RoundOffRelative * math.Max(math.Abs(a), math.Abs(b))
+}
 
 // SlopeConveyance is the single-section fallback: Q = K·√S with the given
 // friction slope s (dimensionless) and the section's conveyance at its

@@ -578,3 +578,52 @@ func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
 		t.Errorf("Q = %.9g, uniform flow %.9g", res.Discharge, want)
 	}
 }
+
+// A fall or a mark spread equal to its limit in the written decimals
+// passes although the binary difference is a little less or more
+// (50.94 − 50.79 is 0.14999999999999147 in double precision, IEEE 754);
+// one a millimetre beyond the limit still warns.
+func TestSlopeAreaChecksAtTheirLimit(t *testing.T) {
+	up, dn := 50.94, 50.79 // variables: a constant expression would be exact
+	if d := up - dn; !(d < MinFallSI) {
+		t.Fatalf("50.94 - 50.79 = %.17g: the case no longer shows round-off", d)
+	}
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name         string
+		up, dn       [2]float64 // left, right marks
+		check        string
+		pass         bool
+		value, limit float64
+	}{
+		{"fall at the limit", [2]float64{50.94, 50.94}, [2]float64{50.79, 50.79}, "fall A to B", true, 0.15, MinFallSI},
+		{"fall a millimetre short", [2]float64{50.94, 50.94}, [2]float64{50.791, 50.791}, "fall A to B", false, 0.149, MinFallSI},
+		{"fall at the limit, one mark", [2]float64{1234.56, nan}, [2]float64{1234.41, nan}, "fall A to B", true, 0.15, MinFallSI},
+		{"spread at the limit", [2]float64{50.94, 50.79}, [2]float64{50.4, 50.4}, "mark spread A", true, 0.15, MarkSpreadSI},
+		{"spread at the limit, high datum", [2]float64{4321.17, 4321.02}, [2]float64{4320.6, 4320.6}, "mark spread A", true, 0.15, MarkSpreadSI},
+		{"spread a millimetre over", [2]float64{50.941, 50.79}, [2]float64{50.4, 50.4}, "mark spread A", false, 0.151, MarkSpreadSI},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			bed := math.Floor(tc.dn[0]) - 3
+			secs := []Section{
+				{ID: "A", Geometry: saTrapezoid(t, 30, 2, bed+0.1, 6, 0.04), Distance: 0, Left: tc.up[0], Right: tc.up[1]},
+				{ID: "B", Geometry: saTrapezoid(t, 30, 2, bed, 6, 0.04), Distance: 165, Left: tc.dn[0], Right: tc.dn[1]},
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, c := range res.Checks {
+				if c.Name != tc.check {
+					continue
+				}
+				if c.Pass != tc.pass || saRelErr(c.Value, tc.value) > saClosedFormTol || c.Limit != tc.limit {
+					t.Errorf("%s: pass %v value %.17g limit %g, want pass %v value %g limit %g",
+						c.Name, c.Pass, c.Value, c.Limit, tc.pass, tc.value, tc.limit)
+				}
+				return
+			}
+			t.Errorf("no check %q in %+v", tc.check, res.Checks)
+		})
+	}
+}
