@@ -209,7 +209,11 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	t.b.WriteString(siteLine(rep.Provenance))
 	t.line("")
 	t.line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
-	if un := rep.Uncertainty; un != nil {
+	switch un := rep.Uncertainty; {
+	case un == nil:
+	case un.Failed >= un.Draws:
+		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
+	default:
 		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
 			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
 	}
@@ -356,7 +360,11 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 	t.line("")
 	t.line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
 	t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
-	t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+	if un.MarkSD > 0 {
+		t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+	} else {
+		t.line("  marks          not varied: every mark held at its elevation, its quality rating set aside")
+	}
 	sds := make([]string, 0, len(un.WaterSurfaceSD))
 	for i, v := range un.WaterSurfaceSD {
 		if i < len(r.Sections) {

@@ -53,3 +53,42 @@ func TestSlopeAreaTextSubreaches(t *testing.T) {
 		})
 	}
 }
+
+// The band line and the marks line of the uncertainty follow what was
+// drawn: no band when no draw solved, and marks held when their standard
+// deviation is zero (no mark varied, rated or not).
+func TestSlopeAreaTextUncertaintyWords(t *testing.T) {
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name string
+		un   reach.Uncertainty
+		want []string
+	}{
+		{"band", reach.Uncertainty{Draws: 200, Failed: 10, MarkSD: 0.03, P05: 90, P50: 100, P95: 110},
+			[]string{"  90 % band     90 to 110 m3/s (5th to 95th percentile, median 100, 190 draws)",
+				"  marks          normal about each mark, standard deviation 0.03 m per mark unless its quality says otherwise"}},
+		{"no band", reach.Uncertainty{Draws: 200, Failed: 200, MarkSD: 0.03, P05: nan, P50: nan, P95: nan},
+			[]string{"  90 % band     none: no draw of 200 had a solution"}},
+		{"marks held", reach.Uncertainty{Draws: 200, MarkSD: 0, P05: 90, P50: 100, P95: 110},
+			[]string{"  marks          not varied: every mark held at its elevation, its quality rating set aside"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
+				SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan}
+			var b bytes.Buffer
+			if err := results.WriteSlopeAreaText(&b, reach.Report{Result: res, Uncertainty: &tc.un}); err != nil {
+				t.Fatal(err)
+			}
+			lines := strings.Split(b.String(), "\n")
+			for _, w := range tc.want {
+				found := false
+				for _, l := range lines {
+					found = found || l == w
+				}
+				if !found {
+					t.Errorf("no line %q in\n%s", w, b.String())
+				}
+			}
+		})
+	}
+}

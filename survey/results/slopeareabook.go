@@ -287,7 +287,7 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		{"draws without a solution", nil, un.Failed, ""},
 		{"seed", nil, fmt.Sprint(un.Seed), ""},
 		{"coefficient of variation of n (log-normal)", nil, un.NCV, ""},
-		{"standard deviation of one mark (normal)", nil, un.MarkSD, L},
+		{markSDLabel(un.MarkSD), nil, un.MarkSD, L},
 		{"dQ/dn, every n together", nil, un.DQDN, Q + " per unit n"},
 		{"dQ/dn, every n together, per 0.001 of n", nil, un.DQDNPerMilli, Q + " per 0.001 n"},
 	}
@@ -307,4 +307,13 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		}
 	}
 	return s.Flush()
+}
+
+// markSDLabel names the uncertainty sheet's row of the mark standard
+// deviation sd: zero means no mark was varied, rated or not.
+func markSDLabel(sd float64) string {
+	if sd > 0 {
+		return "standard deviation of one mark (normal)"
+	}
+	return "standard deviation of one mark: none, every mark held (its quality set aside)"
 }
