@@ -303,7 +303,8 @@ func (e *SectionError) Error() string {
 func (e *SectionError) Unwrap() error { return e.Err }
 
 // saWaterSurface returns a section's water surface from its marks, the
-// number of marks used, and a warning when the chosen side was missing.
+// number of marks used, and a warning naming the mark used when the chosen
+// side, or one of the two for the mean, was missing.
 func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 	l, r := s.Left, s.Right
 	hasL, hasR := finite(l), finite(r)
@@ -317,13 +318,19 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		}
 		return (l + r) / 2, 2, ""
 	case hasL:
-		if side == RightSide {
+		switch side {
+		case RightSide:
 			warn = fmt.Sprintf("section %s has no right mark: the left mark is used", s.ID)
+		case MeanSide:
+			warn = fmt.Sprintf("section %s has no right mark: its water surface is the left mark alone, not a mean of two", s.ID)
 		}
 		return l, 1, warn
 	case hasR:
-		if side == LeftSide {
+		switch side {
+		case LeftSide:
 			warn = fmt.Sprintf("section %s has no left mark: the right mark is used", s.ID)
+		case MeanSide:
+			warn = fmt.Sprintf("section %s has no left mark: its water surface is the right mark alone, not a mean of two", s.ID)
 		}
 		return r, 1, warn
 	}

@@ -249,14 +249,18 @@ func TestSlopeAreaSectionMatchesHydraulics(t *testing.T) {
 func TestSlopeAreaSides(t *testing.T) {
 	g1 := saTrapezoid(t, 10, 1, 100, 5, 0.04)
 	g2 := saTrapezoid(t, 10, 1, 99.8, 5, 0.04)
+	const (
+		meanWarn  = "section B has no right mark: its water surface is the left mark alone, not a mean of two"
+		rightWarn = "section B has no right mark: the left mark is used"
+	)
 	for _, tc := range []struct {
-		side     Side
-		want     float64
-		warnings int
+		side Side
+		want float64
+		warn string // "" for none about B's marks
 	}{
-		{MeanSide, 102.05, 0},
-		{LeftSide, 102.0, 0},
-		{RightSide, 102.1, 0},
+		{MeanSide, 102.05, meanWarn},
+		{LeftSide, 102.0, ""},
+		{RightSide, 102.1, rightWarn},
 	} {
 		secs := []Section{
 			{ID: "A", Geometry: g1, Distance: 0, Left: 102.0, Right: 102.1},
@@ -269,8 +273,18 @@ func TestSlopeAreaSides(t *testing.T) {
 		if saRelErr(res.Sections[0].WaterSurface, tc.want) > saClosedFormTol {
 			t.Errorf("side %v: water surface %g, want %g", tc.side, res.Sections[0].WaterSurface, tc.want)
 		}
-		if tc.side == RightSide && len(res.Warnings) == 0 {
-			t.Errorf("side right with no right mark at B: no warning")
+		if res.Sections[1].WaterSurface != 101.8 || res.Sections[1].MarksUsed != 1 {
+			t.Errorf("side %v: B's water surface %g from %d marks, want the left mark 101.8 alone",
+				tc.side, res.Sections[1].WaterSurface, res.Sections[1].MarksUsed)
+		}
+		var about []string
+		for _, w := range res.Warnings {
+			if strings.HasPrefix(w, "section B has no") {
+				about = append(about, w)
+			}
+		}
+		if tc.warn == "" && len(about) > 0 || tc.warn != "" && (len(about) != 1 || about[0] != tc.warn) {
+			t.Errorf("side %v: warnings about B's marks %q, want %q", tc.side, about, tc.warn)
 		}
 	}
 }
