@@ -24,7 +24,8 @@ const (
 const (
 	// MinReachDepths is the least reach length, in mean depths of flow:
 	// L ≥ 75·d (common practice, attributed to Dalrymple & Benson, 1967;
-	// confirmed only secondhand).
+	// confirmed only secondhand). Each subreach of a longer reach is held
+	// to its equal share (saSubreachLengthChecks).
 	MinReachDepths = 75.0
 	// MinFallSI and MinFallUS are the least fall between each pair of
 	// adjacent sections, 0.15 m or 0.5 ft, unless the velocity head is
@@ -630,8 +631,11 @@ func saFillSections(res *SlopeArea, secs []Section, ws []float64, used []int, st
 const (
 	srcPairFall = "Dalrymple & Benson 1967 (TWRI 3-A2), as quoted by Jarrett 1985 (USGS WRI 85-4004, p. 7): " +
 		"fall between each pair of sections at least the larger of 0.5 ft (0.15 m) and the velocity head"
-	srcSections  = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
-	srcLength    = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
+	srcSections = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
+	srcLength   = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
+	// srcSubreachLength takes the share of MinReachDepths per subreach.
+	srcSubreachLength = "each subreach at least its equal share of the reach length, %.4g mean depths of its two sections " +
+		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
 	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
@@ -666,6 +670,7 @@ func saCheckList(res *SlopeArea) []Check {
 		first, last := res.Sections[0].Distance, res.Sections[n-1].Distance
 		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
 			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: srcLength})
+		cs = append(cs, saSubreachLengthChecks(res)...)
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
@@ -692,6 +697,30 @@ func saCheckList(res *SlopeArea) []Check {
 		d := math.Abs(s.Left - s.Right)
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread+roundOffSlack(s.Left, s.Right), Source: srcMarks})
+	}
+	return cs
+}
+
+// saSubreachLengthChecks checks the length of every subreach of a reach
+// of three or more sections against its equal share of the reach-length
+// criterion at its own depth: L ≥ MinReachDepths/(M − 1) · (du + dd)/2
+// for M sections, du and dd the hydraulic depths of its two sections.
+// The criterion is for the whole reach (srcLength); sharing it equally
+// among the subreaches is this project's reading, which catches a
+// subreach so short that its fall and losses are round-off and its
+// discharge alone means nothing. A reach of two sections has one
+// subreach, checked as the reach.
+func saSubreachLengthChecks(res *SlopeArea) []Check {
+	if len(res.Subreaches) < 2 {
+		return nil
+	}
+	share := MinReachDepths / float64(len(res.Subreaches))
+	cs := make([]Check, 0, len(res.Subreaches))
+	for _, sr := range res.Subreaches {
+		up, dn := res.Sections[sr.FromIndex], res.Sections[sr.ToIndex]
+		limit := share * (up.HydraulicDepth + dn.HydraulicDepth) / 2
+		cs = append(cs, Check{Name: "subreach length " + sr.From + " to " + sr.To, Value: sr.Length, Limit: limit, Relation: "≥",
+			Pass: sr.Length >= limit-roundOffSlack(up.Distance, dn.Distance), Source: fmt.Sprintf(srcSubreachLength, share)})
 	}
 	return cs
 }

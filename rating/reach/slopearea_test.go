@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -638,6 +639,64 @@ func TestSlopeAreaChecksAtTheirLimit(t *testing.T) {
 				return
 			}
 			t.Errorf("no check %q in %+v", tc.check, res.Checks)
+		})
+	}
+}
+
+// Each subreach of a reach of three or more sections is checked against
+// its equal share of 75 mean depths, at the hydraulic depths A/T of its
+// two sections (closed form for a trapezoid, Chow 1959, table 2-1); a
+// subreach of a millimetre warns, and a reach of two sections has no
+// subreach check beside the reach's.
+func TestSlopeAreaSubreachLength(t *testing.T) {
+	const b, z, n = 20.0, 2.0, 0.04
+	depth := func(y float64) float64 {
+		a, _, top := saTrapezoidAKT(b, z, y, n)
+		return a / top
+	}
+	for _, tc := range []struct {
+		name      string
+		distances []float64
+		want      map[string]bool // check name: pass
+	}{
+		{"even", []float64{0, 165, 340}, map[string]bool{"subreach length A to B": true, "subreach length B to C": true}},
+		{"a millimetre", []float64{0, 165, 165.001}, map[string]bool{"subreach length A to B": true, "subreach length B to C": false}},
+		{"two sections", []float64{0, 340}, map[string]bool{}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			// Depth 2 m at every section, the bed and marks falling 0.3 m per section.
+			var secs []Section
+			for i, d := range tc.distances {
+				bed := 100 - 0.3*float64(i)
+				secs = append(secs, Section{ID: string(rune('A' + i)), Geometry: saTrapezoid(t, b, z, bed, 5, n),
+					Distance: d, Left: bed + 2, Right: math.NaN()})
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			share := MinReachDepths / float64(len(secs)-1)
+			found := 0
+			for _, c := range res.Checks {
+				if !strings.HasPrefix(c.Name, "subreach length") {
+					continue
+				}
+				found++
+				pass, ok := tc.want[c.Name]
+				if !ok {
+					t.Errorf("unexpected check %+v", c)
+					continue
+				}
+				if c.Pass != pass || saRelErr(c.Limit, share*depth(2)) > saClosedFormTol {
+					t.Errorf("%s: pass %v limit %g, want pass %v limit %g", c.Name, c.Pass, c.Limit, pass, share*depth(2))
+				}
+				if !pass && !slices.ContainsFunc(res.Warnings, func(w string) bool { return strings.Contains(w, `"`+c.Name+`": warn`) }) {
+					t.Errorf("%s warns but is not in the warnings: %q", c.Name, res.Warnings)
+				}
+			}
+			if found != len(tc.want) {
+				t.Errorf("%d subreach length checks, want %d", found, len(tc.want))
+			}
 		})
 	}
 }

@@ -221,7 +221,7 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	case reach.MethodSlopeArea:
 		t.line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
 		t.line("  subreaches    %s", saSubreachWords(r))
-		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
+		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, lengthDecimals(saDistances(r)...)), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
 		t.line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
@@ -273,8 +273,9 @@ func saTextInputs(t *textReport, rep reach.Report) {
 	t.line("")
 	t.line("Inputs (reach table)")
 	rows := [][]string{}
+	dec := lengthDecimals(saDistances(r)...)
 	for i, s := range r.Sections {
-		row := []string{s.ID, fixed(s.Distance, 1), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
+		row := []string{s.ID, fixed(s.Distance, dec), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
 		if i < len(rep.Sections) {
 			rr := rep.Sections[i]
 			row[5], row[6], row[7] = saDash(rr.Quality.String()), rr.Survey, rr.Note
@@ -324,12 +325,13 @@ func saTextSubreaches(t *textReport, r reach.SlopeArea) {
 	t.line("")
 	t.line("Subreaches (losses at the peak discharge)")
 	var rows [][]string
+	dec := lengthDecimals(saDistances(r)...)
 	for _, s := range r.Subreaches {
 		kind := "contracting"
 		if s.Expanding {
 			kind = "expanding"
 		}
-		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, 1), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
 			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 	}
 	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)
@@ -409,6 +411,16 @@ func saSideWords(s reach.Side) string {
 		return "the right"
 	}
 	return "the mean of the left and right"
+}
+
+// saDistances returns the distances of the reach's sections, from which
+// its lengths come.
+func saDistances(r reach.SlopeArea) []float64 {
+	out := make([]float64, len(r.Sections))
+	for i, s := range r.Sections {
+		out[i] = s.Distance
+	}
+	return out
 }
 
 func saDash(s string) string {
