@@ -329,7 +329,7 @@ func suggestedStructures() []string { return []string{"bridge", "culvert", "weir
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s, with a decimal point", L)
-	length := fmt.Sprintf("a flow length in %s, zero or more, with a decimal point", L)
+	length := fmt.Sprintf("a flow length in %s, more than zero, with a decimal point", L)
 	lengthHelp := func(path string) string {
 		return "length of the flow path along the " + path + " to the next section downstream; blank: the distance between the sections"
 	}

@@ -34,6 +34,12 @@ const (
 	// channel flow length and the difference of the sections' distances
 	// above which a warning is given (project default).
 	ChannelLengthMismatch = 0.01
+	// OverbankLengthRatio bounds the ratio of an overbank flow length to
+	// the difference of the sections' distances, either way, beyond which
+	// a warning is given: an overbank path may be shorter than the channel
+	// across a bend or longer around it, but twice or half the distance
+	// more often means a slip in the table (project default).
+	OverbankLengthRatio = 2.0
 )
 
 // Row flags of a backwater rating table (rating.Row.Flags), beside those
@@ -56,7 +62,7 @@ var (
 	ErrDischarge      = errors.New("discharge must be a positive, finite number")
 	ErrNoDischarges   = errors.New("no discharges to compute")
 	ErrEddyK          = errors.New("eddy-loss coefficient must be a number from 0 to 1")
-	ErrFlowLength     = errors.New("flow lengths must be non-negative, finite numbers")
+	ErrFlowLength     = errors.New("flow lengths must be finite and zero (not given: the distance) or more")
 	ErrRatingSection  = errors.New("no section of the reach has this id")
 	ErrNoMarks        = errors.New("no section of the reach has a high-water mark")
 	ErrNoBackwaterFit = errors.New("no stage balances the energy equation")

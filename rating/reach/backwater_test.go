@@ -618,7 +618,7 @@ func TestBackwaterOptions(t *testing.T) {
 		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
 	}
 	all := strings.Join(res.Warnings, "\n")
-	for _, want := range []string{"channel flow length 260.0 m", "above the left end of the section: a vertical wall up to"} {
+	for _, want := range []string{"channel flow length 260 m to the next section differs from the distance between them, 200 m", "above the left end of the section: a vertical wall up to"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("no warning with %q in %q", want, res.Warnings)
 		}
@@ -872,5 +872,43 @@ func TestBackwaterNoExtendNamesTop(t *testing.T) {
 	}
 	if _, err := ComputeBackwater(secs, []float64{100}, Boundary{Kind: NormalDepth, Slope: 0.001}, opt); err != nil {
 		t.Errorf("normal depth of 100 m3/s (below the top's 124): %v", err)
+	}
+}
+
+// An overbank flow length more than OverbankLengthRatio times the
+// distance between the sections, or less than its inverse, is warned,
+// naming the section, the side and both lengths; one within, or one not
+// given (zero), is not.
+func TestBackwaterOverbankLengthWarning(t *testing.T) {
+	for _, tc := range []struct {
+		name    string
+		lengths subdivide.PerRegion
+		want    string // "" for no overbank warning
+	}{
+		{"within", subdivide.PerRegion{Left: 150, Channel: 200, Right: 390}, ""},
+		{"at half", subdivide.PerRegion{Left: 100, Channel: 200, Right: 200}, ""},
+		{"not given", subdivide.PerRegion{Channel: 200}, ""},
+		{"left long", subdivide.PerRegion{Left: 401, Channel: 200, Right: 200},
+			"section P0: the left overbank flow length 401 m to the next section is 2.005 times the distance between them, 200 m"},
+		{"right short", subdivide.PerRegion{Left: 200, Channel: 200, Right: 20.5},
+			"section P0: the right overbank flow length 20.5 m to the next section is 0.1025 times the distance between them, 200 m"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=2.5", subdivide.Uniform(0.035), 3, 200, 0.001)
+			secs[0].FlowLengths = tc.lengths
+			res, err := ComputeBackwater(secs, []float64{5}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range res.Warnings {
+				if strings.Contains(w, "overbank flow length") {
+					got = append(got, w)
+				}
+			}
+			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
+				t.Errorf("overbank warnings %q, want %q", got, tc.want)
+			}
+		})
 	}
 }
