@@ -327,7 +327,31 @@ func ComputeBackwater(secs []Section, qs []float64, b Boundary, opt BackwaterOpt
 	}
 	res.Rating = r.rating(res.Profiles, at, opt.spreadTolerance())
 	res.Warnings = append(r.warnings, r.summary(res.Profiles, res.Rating)...)
+	if w := boundaryRatingWarning(secs, at, b, opt.Units); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
 	return res, nil
+}
+
+// boundaryRatingWarning returns a warning when the rating section at is
+// the last section, where the boundary sets the stage: a known stage
+// there is that stage at every discharge (a flat rating, but for critical
+// depth where the stage is below it), and a
+// stage-discharge boundary is returned as given; "" otherwise.
+func boundaryRatingWarning(secs []Section, at int, b Boundary, u rating.Units) string {
+	if at != len(secs)-1 {
+		return ""
+	}
+	id := secs[at].ID
+	switch b.Kind {
+	case KnownStage:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary fixes the stage: it is %s for every discharge "+
+			"(critical depth where that is higher), not a rating; rate a section upstream", id, b.Words(u))
+	case StageRating:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary sets the stage: it is the boundary's "+
+			"stage-discharge rating given back, not computed; rate a section upstream", id)
+	}
+	return ""
 }
 
 func compareFloat(a, b float64) int {
