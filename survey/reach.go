@@ -99,7 +99,7 @@ var (
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
 	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
-	ErrFlowLengthValue  = errors.New("a flow length must be zero or more (blank: the distance to the next section)")
+	ErrFlowLengthValue  = errors.New("a flow length must be more than zero (blank: the distance to the next section)")
 	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
 		strings.Join(StructureWords(), ", "), strings.Join(OpenChannelWords(), ", "))
 	ErrStructure = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
@@ -267,6 +267,7 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 		r.Rows = append(r.Rows, row)
 	}
 	errs = order.report(errs)
+	errs = r.zeroFlowLengths(errs)
 	if len(errs) > 0 {
 		return nil, errs.err()
 	}
@@ -278,6 +279,25 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 			where(t, last.Row), last.ID))
 	}
 	return r, nil
+}
+
+// zeroFlowLengths adds an error (ErrFlowLengthValue) for every flow
+// length of zero at a section other than the last: a flow path to the
+// next section has a length, and a zero is neither that nor the blank that
+// means the distance between the sections. The last section's lengths are
+// not used (ReachTable warns of them).
+func (r *Reach) zeroFlowLengths(errs errorList) errorList {
+	for i, row := range r.Rows[:max(len(r.Rows)-1, 0)] {
+		for _, c := range []struct {
+			name string
+			v    float64
+		}{{ReachColLeftLength, row.LeftLength}, {ReachColChannelLength, row.ChannelLength}, {ReachColRightLength, row.RightLength}} {
+			if c.v == 0 {
+				errs = append(errs, r.t.At(r.t.Records[i], r.cols[c.name], ErrFlowLengthValue))
+			}
+		}
+	}
+	return errs
 }
 
 // distanceOrder follows the distances of a reach table row by row, so

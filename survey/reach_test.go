@@ -335,6 +335,22 @@ func TestReadReachBackwater(t *testing.T) {
 	}
 }
 
+// A zero flow length at the last section is not used, like any there:
+// it is warned of, not refused.
+func TestReachZeroLengthAtLastSection(t *testing.T) {
+	dir := reachFiles(t, map[string]string{"reach.csv": "section,survey,distance,channel_length\nA,a.csv,0,10\nB,a.csv,10,0\n",
+		"a.csv": reachSurveyCSV})
+	r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{MarksOptional: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.ContainsFunc(r.Warnings, func(w string) bool {
+		return strings.Contains(w, "reach.csv:3: section B is the last of the reach: its flow lengths are not used")
+	}) {
+		t.Errorf("warnings %q", r.Warnings)
+	}
+}
+
 // Bad cells of the backwater columns are reported at their cells; a
 // structure is refused where it is named.
 func TestReachBackwaterErrors(t *testing.T) {
@@ -345,6 +361,8 @@ func TestReachBackwaterErrors(t *testing.T) {
 		where       string
 	}{
 		{"negative length", head + "A,a.csv,0,,-5,\nB,a.csv,10,,,\n", ErrFlowLengthValue, "reach.csv:2:5"},
+		{"zero length", head + "A,a.csv,0,,0,\nB,a.csv,10,,,\n", ErrFlowLengthValue, "reach.csv:2:5"},
+		{"zero length mid-reach", head + "A,a.csv,0,,10,\nB,a.csv,10,,0.0,\nC,a.csv,20,,,\n", ErrFlowLengthValue, "reach.csv:3:5"},
 		{"length not a number", head + "A,a.csv,0,,far,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:5"},
 		{"bad mark", head + "A,a.csv,0,high,,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:4"},
 		{"distance order", head + "A,a.csv,10,,,\nB,a.csv,10,,,\n", ErrDistanceOrder, "reach.csv:3:3"},

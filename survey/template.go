@@ -329,7 +329,7 @@ func suggestedStructures() []string { return []string{"bridge", "culvert", "weir
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
-	length := fmt.Sprintf("a flow length in %s, from 0 to %s, with a decimal point", L, plainNumber(MaxCoordinate))
+	length := fmt.Sprintf("a flow length in %s, more than zero and at most %s, with a decimal point", L, plainNumber(MaxCoordinate))
 	lengthHelp := func(path string) string {
 		return "length of the flow path along the " + path + " to the next section downstream; blank: the distance between the sections"
 	}

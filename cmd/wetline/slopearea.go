@@ -58,7 +58,7 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 		"(fewer leave too few draws beyond the 5th and 95th percentiles)", minDraws))
 	fs.Uint64Var(&f.seed, "seed", 1, "random seed of the Monte Carlo draws")
 	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none; at most 1)")
-	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft; a quality column overrides it where rated, and the report warns when every section is rated; 0: none)")
+	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft, at most 1 m or 3 ft; a quality column overrides it where rated, and the report warns when every section is rated; 0: no spread of any mark, rated or not)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
 	fs.BoolVar(&f.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
 	connectedFlag(fs)
@@ -184,6 +184,9 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	rep, err := reach.Estimate(secs, opt)
 	if errors.Is(err, reach.ErrSlopeForReach) {
 		return rep, usageError{err: fmt.Errorf("slopearea: --slope: %w", err)}
+	}
+	if errors.Is(err, reach.ErrMarkSD) {
+		return rep, usageError{err: fmt.Errorf("slopearea: --mark-sd: %w", err)}
 	}
 	if err != nil {
 		return rep, rt.PlaceError(err)

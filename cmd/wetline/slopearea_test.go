@@ -326,3 +326,37 @@ func TestSlopeAreaMarkSDUnused(t *testing.T) {
 		})
 	}
 }
+
+// --mark-sd is bounded by the unit system of the reach (1 m, 3 ft): more is
+// a usage error naming the flag; --mark-sd 0 says that no mark is varied,
+// rated or not.
+func TestSlopeAreaMarkSDBound(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for name, unit := range map[string]string{"si": "", "us": " (ft)"} {
+		os.WriteFile(filepath.Join(dir, name+".csv"), []byte("section,survey,distance,ws_left,ws_right\n"+
+			"A,a"+name+".csv,0,11.2,\nB,b"+name+".csv,300,11,\n"), 0o644)
+		os.WriteFile(filepath.Join(dir, "a"+name+".csv"), []byte("station"+unit+",elevation"+unit+",n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+		os.WriteFile(filepath.Join(dir, "b"+name+".csv"), []byte("station"+unit+",elevation"+unit+",n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+	}
+	for _, tc := range []struct {
+		reach, markSD string
+		code          int
+		want          string
+	}{
+		{"si.csv", "1", 0, "standard deviation 1 m per mark"},
+		{"si.csv", "5", 2, "--mark-sd: standard deviation of a mark too large: 5 m is more than 1 m"},
+		{"si.csv", "1e9", 2, "--mark-sd: standard deviation of a mark too large"},
+		{"us.csv", "3", 0, "standard deviation 3 ft per mark"},
+		{"us.csv", "3.5", 2, "3.5 ft is more than 3 ft"},
+		{"si.csv", "0", 0, "marks          not varied: every mark held at its elevation, its quality rating set aside"},
+	} {
+		t.Run(tc.reach+" "+tc.markSD, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, "slopearea", filepath.Join(dir, tc.reach), "--draws", "200", "--mark-sd", tc.markSD)
+			if code != tc.code || !strings.Contains(out+errs, tc.want) {
+				t.Errorf("exit %d, want %d with %q:\n%s%s", code, tc.code, tc.want, out, errs)
+			}
+		})
+	}
+}

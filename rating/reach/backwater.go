@@ -34,6 +34,12 @@ const (
 	// channel flow length and the difference of the sections' distances
 	// above which a warning is given (project default).
 	ChannelLengthMismatch = 0.01
+	// OverbankLengthRatio bounds the ratio of an overbank flow length to
+	// the difference of the sections' distances, either way, beyond which
+	// a warning is given: an overbank path may be shorter than the channel
+	// across a bend or longer around it, but twice or half the distance
+	// more often means a slip in the table (project default).
+	OverbankLengthRatio = 2.0
 )
 
 // Row flags of a backwater rating table (rating.Row.Flags), beside those
@@ -56,7 +62,7 @@ var (
 	ErrDischarge      = errors.New("discharge must be a positive, finite number")
 	ErrNoDischarges   = errors.New("no discharges to compute")
 	ErrEddyK          = errors.New("eddy-loss coefficient must be a number from 0 to 1")
-	ErrFlowLength     = errors.New("flow lengths must be non-negative, finite numbers")
+	ErrFlowLength     = errors.New("flow lengths must be finite and zero (not given: the distance) or more")
 	ErrRatingSection  = errors.New("no section of the reach has this id")
 	ErrNoMarks        = errors.New("no section of the reach has a high-water mark")
 	ErrNoBackwaterFit = errors.New("no stage balances the energy equation")
@@ -321,7 +327,31 @@ func ComputeBackwater(secs []Section, qs []float64, b Boundary, opt BackwaterOpt
 	}
 	res.Rating = r.rating(res.Profiles, at, opt.spreadTolerance())
 	res.Warnings = append(r.warnings, r.summary(res.Profiles, res.Rating)...)
+	if w := boundaryRatingWarning(secs, at, b, opt.Units); w != "" {
+		res.Warnings = append(res.Warnings, w)
+	}
 	return res, nil
+}
+
+// boundaryRatingWarning returns a warning when the rating section at is
+// the last section, where the boundary sets the stage: a known stage
+// there is that stage at every discharge (a flat rating, but for critical
+// depth where the stage is below it), and a
+// stage-discharge boundary is returned as given; "" otherwise.
+func boundaryRatingWarning(secs []Section, at int, b Boundary, u rating.Units) string {
+	if at != len(secs)-1 {
+		return ""
+	}
+	id := secs[at].ID
+	switch b.Kind {
+	case KnownStage:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary fixes the stage: it is %s for every discharge "+
+			"(critical depth where that is higher), not a rating; rate a section upstream", id, b.Words(u))
+	case StageRating:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary sets the stage: it is the boundary's "+
+			"stage-discharge rating given back, not computed; rate a section upstream", id)
+	}
+	return ""
 }
 
 func compareFloat(a, b float64) int {

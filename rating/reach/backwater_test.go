@@ -618,7 +618,7 @@ func TestBackwaterOptions(t *testing.T) {
 		t.Errorf("second %q, k %g %g", res.SecondBoundary, res.Expansion, res.Contraction)
 	}
 	all := strings.Join(res.Warnings, "\n")
-	for _, want := range []string{"channel flow length 260.0 m", "above the left end of the section: a vertical wall up to"} {
+	for _, want := range []string{"channel flow length 260 m to the next section differs from the distance between them, 200 m", "above the left end of the section: a vertical wall up to"} {
 		if !strings.Contains(all, want) {
 			t.Errorf("no warning with %q in %q", want, res.Warnings)
 		}
@@ -872,5 +872,100 @@ func TestBackwaterNoExtendNamesTop(t *testing.T) {
 	}
 	if _, err := ComputeBackwater(secs, []float64{100}, Boundary{Kind: NormalDepth, Slope: 0.001}, opt); err != nil {
 		t.Errorf("normal depth of 100 m3/s (below the top's 124): %v", err)
+	}
+}
+
+// An overbank flow length more than OverbankLengthRatio times the
+// distance between the sections, or less than its inverse, is warned,
+// naming the section, the side and both lengths; one within, or one not
+// given (zero), is not.
+func TestBackwaterOverbankLengthWarning(t *testing.T) {
+	for _, tc := range []struct {
+		name    string
+		lengths subdivide.PerRegion
+		want    string // "" for no overbank warning
+	}{
+		{"within", subdivide.PerRegion{Left: 150, Channel: 200, Right: 390}, ""},
+		{"at half", subdivide.PerRegion{Left: 100, Channel: 200, Right: 200}, ""},
+		{"not given", subdivide.PerRegion{Channel: 200}, ""},
+		{"left long", subdivide.PerRegion{Left: 401, Channel: 200, Right: 200},
+			"section P0: the left overbank flow length 401 m to the next section is 2.005 times the distance between them, 200 m"},
+		{"right short", subdivide.PerRegion{Left: 200, Channel: 200, Right: 20.5},
+			"section P0: the right overbank flow length 20.5 m to the next section is 0.1025 times the distance between them, 200 m"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=2.5", subdivide.Uniform(0.035), 3, 200, 0.001)
+			secs[0].FlowLengths = tc.lengths
+			res, err := ComputeBackwater(secs, []float64{5}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range res.Warnings {
+				if strings.Contains(w, "overbank flow length") {
+					got = append(got, w)
+				}
+			}
+			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
+				t.Errorf("overbank warnings %q, want %q", got, tc.want)
+			}
+		})
+	}
+}
+
+// A rating at the last section, where the boundary sets the stage, is the
+// boundary itself: with a known stage every discharge reads that stage (a
+// flat rating) and the result warns, naming the section and the stage; a
+// rating upstream, or one at the last section under normal depth, does
+// not warn.
+func TestBackwaterRatingAtBoundary(t *testing.T) {
+	const h = 101.2
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=4", subdivide.Uniform(0.035), 3, 200, 0.001)
+	last := secs[2].ID
+	table := []StageDischarge{{secs[2].Geometry.Bottom() + 0.5, 1}, {secs[2].Geometry.Bottom() + 3, 200}}
+	for _, tc := range []struct {
+		name string
+		at   string
+		b    Boundary
+		want string // "" for no warning about the boundary
+	}{
+		{"stage at the last", last, Boundary{Kind: KnownStage, Stage: h},
+			"the rating is at section " + last + ", the last, where the boundary fixes the stage: it is stage 101.200 m for every discharge"},
+		{"stage upstream", secs[1].ID, Boundary{Kind: KnownStage, Stage: h}, ""},
+		{"stage, default section", "", Boundary{Kind: KnownStage, Stage: h}, ""},
+		{"normal at the last", last, Boundary{Kind: NormalDepth, Slope: 0.001}, ""},
+		{"rating at the last", last, Boundary{Kind: StageRating, Rating: table},
+			"the rating is at section " + last + ", the last, where the boundary sets the stage: it is the boundary's stage-discharge rating given back"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res, err := ComputeBackwater(secs, []float64{5, 20, 60}, tc.b, BackwaterOptions{At: tc.at})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range res.Warnings {
+				if strings.HasPrefix(w, "the rating is at section") {
+					got = append(got, w)
+				}
+			}
+			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
+				t.Errorf("warnings %q, want %q", got, tc.want)
+			}
+			if tc.b.Kind == KnownStage && tc.at == last {
+				flat := 0
+				for i, rd := range res.Rating.Rows {
+					switch {
+					case res.Profiles[i].StartCritical: // the stage is below critical depth there
+					case rd.Stage != h:
+						t.Errorf("discharge %g at the boundary: stage %g, want %g", rd.Discharge, rd.Stage, h)
+					default:
+						flat++
+					}
+				}
+				if flat < 2 {
+					t.Errorf("%d discharges at the fixed stage, want 2 or more to show a flat rating", flat)
+				}
+			}
+		})
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -121,13 +122,31 @@ func (r *bwRun) prepareSection(i int, s Section, opt BackwaterOptions) error {
 			}
 			r.flow[i][k] = l
 		}
+		L := opt.Units.Length()
 		if ch := s.FlowLengths.Channel; ch > 0 && math.Abs(ch-dist) > ChannelLengthMismatch*dist {
 			r.warnings = append(r.warnings, fmt.Sprintf(
-				"section %s: the channel flow length %.1f %s to the next section differs from the distance between them, %.1f %s; the flow lengths are used",
-				s.ID, ch, opt.Units.Length(), dist, opt.Units.Length()))
+				"section %s: the channel flow length %s %s to the next section differs from the distance between them, %s %s; the flow lengths are used",
+				s.ID, lengthText(ch), L, lengthText(dist), L))
+		}
+		for _, ob := range []struct {
+			name string
+			l    float64
+		}{{"left", s.FlowLengths.Left}, {"right", s.FlowLengths.Right}} {
+			if ob.l > 0 && (ob.l > OverbankLengthRatio*dist || ob.l*OverbankLengthRatio < dist) {
+				r.warnings = append(r.warnings, fmt.Sprintf(
+					"section %s: the %s overbank flow length %s %s to the next section is %.4g times the distance between them, %s %s "+
+						"(more than %g times or less than 1/%g is unusual); the flow lengths are used",
+					s.ID, ob.name, lengthText(ob.l), L, ob.l/dist, lengthText(dist), L, OverbankLengthRatio, OverbankLengthRatio))
+			}
 		}
 	}
 	return nil
+}
+
+// lengthText writes a length rounded to 0.1 mm (or 0.0001 ft), with no
+// trailing zeros: 160, 0.001, 172.5.
+func lengthText(v float64) string {
+	return strconv.FormatFloat(math.Round(v*1e4)/1e4, 'f', -1, 64)
 }
 
 func (r *bwRun) secondWords() string {

@@ -1,6 +1,7 @@
 package reach
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -30,6 +31,15 @@ const (
 	// 2016, USGS Techniques and Methods 3-A24; from memory).
 	DefaultMarkSDSI = 0.03
 	DefaultMarkSDUS = 0.10
+	// MaxMarkSDSI and MaxMarkSDUS bound the standard deviation of one
+	// mark: 1 m or 3 ft (project bound). A normal spread of 1 m puts a
+	// mark's 5th to 95th percentiles 3.3 m apart, eight times the band of
+	// a poor mark (±0.40 ft, Koenig and others, 2016, as above) and twenty
+	// times the least fall of a subreach (MinFallSI): the marks no longer
+	// set a water surface, so more is a slip rather than a judgement of
+	// the marks. 3 ft is the same bound in feet (0.91 m), rounded.
+	MaxMarkSDSI = 1.0
+	MaxMarkSDUS = 3.0
 	// ChunkDraws is the number of draws made from one random source. Chunk
 	// c of a run with seed s draws from rand.NewPCG(s, c), so the draws do
 	// not depend on how many goroutines share the work.
@@ -56,8 +66,10 @@ type MonteCarloOptions struct {
 	NCV float64
 	// MarkSD is the standard deviation of one mark's elevation (length
 	// unit), drawn normal about the mark; zero means DefaultMarkSDSI or
-	// DefaultMarkSDUS, a negative value no spread. A section's own
-	// Section.MarkSD replaces it for that section's marks.
+	// DefaultMarkSDUS; a negative value means no spread of any mark, not
+	// even of those whose section sets its own. Otherwise a section's own
+	// Section.MarkSD replaces it for that section's marks. It may be at
+	// most MaxMarkSDSI or MaxMarkSDUS.
 	MarkSD float64
 	// Workers is the number of goroutines (default GOMAXPROCS). Results do
 	// not depend on it.
@@ -71,7 +83,9 @@ type Uncertainty struct {
 	// (a dry section, no fall, no real discharge), left out of the
 	// percentiles.
 	Draws, Failed int
-	// Seed, NCV and MarkSD are the settings used (MarkSD in length units).
+	// Seed, NCV and MarkSD are the settings used (MarkSD in length units;
+	// zero when no mark was spread, whatever its section's own standard
+	// deviation).
 	Seed        uint64
 	NCV, MarkSD float64
 	// P05, P50 and P95 are the 5th, 50th and 95th percentiles of the
@@ -155,7 +169,8 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 //
 // Preconditions: at least two sections, and the reach must solve
 // (SolveSlopeArea returns no error). Errors: ErrTooFewSections, the
-// reach's own error, or an error for more than MaxDraws draws.
+// reach's own error, an error for more than MaxDraws draws, or ErrMarkSD
+// for a mark standard deviation above MaxMarkSD.
 //
 // References:
 //
@@ -195,9 +210,23 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 	return u, nil
 }
 
+// ErrMarkSD is returned for a standard deviation of a mark above
+// MaxMarkSDSI or MaxMarkSDUS.
+var ErrMarkSD = errors.New("standard deviation of a mark too large")
+
+// MaxMarkSD returns the largest standard deviation of one mark that
+// MonteCarlo takes in the length unit of u (MaxMarkSDSI or MaxMarkSDUS).
+func MaxMarkSD(u rating.Units) float64 {
+	if u == rating.US {
+		return MaxMarkSDUS
+	}
+	return MaxMarkSDSI
+}
+
 // settings returns the uncertainty with the settings of mc in force
 // (defaults for zero values, no spread for negative ones), and an error
-// for more than MaxDraws draws.
+// for more than MaxDraws draws or a mark standard deviation above
+// MaxMarkSD (wrapping ErrMarkSD).
 func (mc MonteCarloOptions) settings(units rating.Units) (Uncertainty, error) {
 	u := Uncertainty{Draws: mc.Draws, Seed: mc.Seed, NCV: mc.NCV, MarkSD: mc.MarkSD}
 	if u.Draws <= 0 {
@@ -205,6 +234,10 @@ func (mc MonteCarloOptions) settings(units rating.Units) (Uncertainty, error) {
 	}
 	if u.Draws > MaxDraws {
 		return Uncertainty{}, fmt.Errorf("%d draws is more than %d", u.Draws, MaxDraws)
+	}
+	if lim := MaxMarkSD(units); u.MarkSD > lim {
+		return Uncertainty{}, fmt.Errorf("%w: %g %s is more than %g %s (the marks would no longer set a water surface)",
+			ErrMarkSD, u.MarkSD, units.Length(), lim, units.Length())
 	}
 	switch {
 	case u.NCV == 0:

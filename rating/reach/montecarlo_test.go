@@ -1,8 +1,11 @@
 package reach
 
 import (
+	"errors"
+	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -243,5 +246,52 @@ func TestEstimateMarkSDUnused(t *testing.T) {
 				t.Errorf("warned %v, want %v: %q", got, tc.warned, rep.Warnings)
 			}
 		})
+	}
+}
+
+// A mark standard deviation above MaxMarkSD of the unit system is refused
+// (ErrMarkSD); one at the bound is taken.
+func TestMonteCarloMarkSDBound(t *testing.T) {
+	for _, tc := range []struct {
+		units  rating.Units
+		markSD float64
+		bad    bool
+	}{
+		{rating.SI, MaxMarkSDSI, false},
+		{rating.SI, 1.01, true},
+		{rating.SI, 1e9, true},
+		{rating.US, MaxMarkSDUS, false},
+		{rating.US, 3.01, true},
+	} {
+		t.Run(fmt.Sprintf("%v %g", tc.units, tc.markSD), func(t *testing.T) {
+			secs := saThreeSections(t) // in US units the same numbers read in feet
+			_, err := MonteCarlo(secs, SlopeAreaOptions{Units: tc.units}, MonteCarloOptions{Draws: 200, Seed: 1, MarkSD: tc.markSD})
+			if got := errors.Is(err, ErrMarkSD); got != tc.bad {
+				t.Errorf("error %v, want ErrMarkSD %v", err, tc.bad)
+			}
+			if !tc.bad && err != nil {
+				t.Error(err)
+			}
+		})
+	}
+}
+
+// The warning for draws without a solution: none up to FailedDrawsWarn
+// of the draws, their share above it, and no band when all failed.
+func TestFailedDrawsWarning(t *testing.T) {
+	for _, tc := range []struct {
+		draws, failed int
+		want          string // "" for no warning
+	}{
+		{5000, 0, ""},
+		{5000, 50, ""},
+		{5000, 51, "51 of 5000 Monte Carlo draws (1.0 %) had no solution"},
+		{5000, 3604, "3604 of 5000 Monte Carlo draws (72.1 %) had no solution"},
+		{5000, 5000, "no uncertainty band: none of the 5000 Monte Carlo draws had a solution"},
+	} {
+		got := failedDrawsWarning(Uncertainty{Draws: tc.draws, Failed: tc.failed})
+		if tc.want == "" && got != "" || !strings.Contains(got, tc.want) {
+			t.Errorf("%d of %d failed: %q, want %q", tc.failed, tc.draws, got, tc.want)
+		}
 	}
 }

@@ -49,6 +49,22 @@ var ErrSlopeForReach = errors.New("a slope is only for a reach of one section (t
 // draw in a hundred).
 const FailedDrawsWarn = 0.01
 
+// failedDrawsWarning returns the warning for the draws of un without a
+// solution: none when they are FailedDrawsWarn of the draws or fewer;
+// their share when more; and that there is no band when every draw
+// failed.
+func failedDrawsWarning(un Uncertainty) string {
+	switch {
+	case un.Draws <= 0 || !(float64(un.Failed) > FailedDrawsWarn*float64(un.Draws)):
+		return ""
+	case un.Failed >= un.Draws:
+		return fmt.Sprintf("no uncertainty band: none of the %d Monte Carlo draws had a solution (a section dry or no fall); "+
+			"review the n variation and the mark standard deviation", un.Draws)
+	}
+	return fmt.Sprintf("%d of %d Monte Carlo draws (%.1f %%) had no solution (a section dry or no fall): the band leaves them out",
+		un.Failed, un.Draws, 100*float64(un.Failed)/float64(un.Draws))
+}
+
 // markSDUnused returns a warning when a standard deviation of the marks
 // was given (mc.MarkSD > 0) but every section's quality sets its own
 // (Section.MarkSD > 0), so that the one given is not used; "" otherwise.
@@ -74,7 +90,9 @@ func markSDUnused(secs []Section, mc MonteCarloOptions, u rating.Units) string {
 // not used because every section's quality sets its own). The report's Name, Provenance and Figures are left for the
 // caller. Errors are those of the methods, a *SectionError where one
 // section is at fault, ErrTooFewSections for one section without a slope,
-// or ErrSlopeForReach.
+// ErrSlopeForReach, or ErrMarkSD. More than FailedDrawsWarn of the draws
+// without a solution are warned with their share, and all of them as no
+// band.
 //
 // References:
 //
@@ -120,9 +138,8 @@ func Estimate(secs []Section, opt EstimateOptions) (Report, error) {
 	if w := markSDUnused(secs, mc, opt.SlopeArea.Units); w != "" {
 		rep.Warnings = append(rep.Warnings, w)
 	}
-	if float64(un.Failed) > FailedDrawsWarn*float64(un.Draws) {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf(
-			"%d of %d Monte Carlo draws had no solution (a section dry or no fall): the band leaves them out", un.Failed, un.Draws))
+	if w := failedDrawsWarning(un); w != "" {
+		rep.Warnings = append(rep.Warnings, w)
 	}
 	return rep, nil
 }

@@ -24,7 +24,8 @@ const (
 const (
 	// MinReachDepths is the least reach length, in mean depths of flow:
 	// L ≥ 75·d (common practice, attributed to Dalrymple & Benson, 1967;
-	// confirmed only secondhand).
+	// confirmed only secondhand). Each subreach of a longer reach is held
+	// to its equal share (saSubreachLengthChecks).
 	MinReachDepths = 75.0
 	// MinFallSI and MinFallUS are the least fall between each pair of
 	// adjacent sections, 0.15 m or 0.5 ft, unless the velocity head is
@@ -303,7 +304,8 @@ func (e *SectionError) Error() string {
 func (e *SectionError) Unwrap() error { return e.Err }
 
 // saWaterSurface returns a section's water surface from its marks, the
-// number of marks used, and a warning when the chosen side was missing.
+// number of marks used, and a warning naming the mark used when the chosen
+// side, or one of the two for the mean, was missing.
 func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 	l, r := s.Left, s.Right
 	hasL, hasR := finite(l), finite(r)
@@ -317,13 +319,19 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		}
 		return (l + r) / 2, 2, ""
 	case hasL:
-		if side == RightSide {
+		switch side {
+		case RightSide:
 			warn = fmt.Sprintf("section %s has no right mark: the left mark is used", s.ID)
+		case MeanSide:
+			warn = fmt.Sprintf("section %s has no right mark: its water surface is the left mark alone, not a mean of two", s.ID)
 		}
 		return l, 1, warn
 	case hasR:
-		if side == LeftSide {
+		switch side {
+		case LeftSide:
 			warn = fmt.Sprintf("section %s has no left mark: the right mark is used", s.ID)
+		case MeanSide:
+			warn = fmt.Sprintf("section %s has no left mark: its water surface is the right mark alone, not a mean of two", s.ID)
 		}
 		return r, 1, warn
 	}
@@ -623,8 +631,11 @@ func saFillSections(res *SlopeArea, secs []Section, ws []float64, used []int, st
 const (
 	srcPairFall = "Dalrymple & Benson 1967 (TWRI 3-A2), as quoted by Jarrett 1985 (USGS WRI 85-4004, p. 7): " +
 		"fall between each pair of sections at least the larger of 0.5 ft (0.15 m) and the velocity head"
-	srcSections  = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
-	srcLength    = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
+	srcSections = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
+	srcLength   = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
+	// srcSubreachLength takes the share of MinReachDepths per subreach.
+	srcSubreachLength = "each subreach at least its equal share of the reach length, %.4g mean depths of its two sections " +
+		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
 	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
@@ -656,8 +667,10 @@ func saCheckList(res *SlopeArea) []Check {
 		cs = append(cs, Check{Name: "sections in the reach", Value: float64(n), Limit: MinSections, Relation: "≥",
 			Pass: n >= MinSections, Source: srcSections})
 		cs = append(cs, saFallChecks(res)...)
+		first, last := res.Sections[0].Distance, res.Sections[n-1].Distance
 		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
-			Pass: res.Length >= MinReachDepths*meanD, Source: srcLength})
+			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: srcLength})
+		cs = append(cs, saSubreachLengthChecks(res)...)
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
 			if ratio < 1 {
@@ -683,7 +696,31 @@ func saCheckList(res *SlopeArea) []Check {
 		}
 		d := math.Abs(s.Left - s.Right)
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
-			Pass: d <= res.MarkSpread*(1+MarkSpreadEpsilon), Source: srcMarks})
+			Pass: d <= res.MarkSpread+roundOffSlack(s.Left, s.Right), Source: srcMarks})
+	}
+	return cs
+}
+
+// saSubreachLengthChecks checks the length of every subreach of a reach
+// of three or more sections against its equal share of the reach-length
+// criterion at its own depth: L ≥ MinReachDepths/(M − 1) · (du + dd)/2
+// for M sections, du and dd the hydraulic depths of its two sections.
+// The criterion is for the whole reach (srcLength); sharing it equally
+// among the subreaches is this project's reading, which catches a
+// subreach so short that its fall and losses are round-off and its
+// discharge alone means nothing. A reach of two sections has one
+// subreach, checked as the reach.
+func saSubreachLengthChecks(res *SlopeArea) []Check {
+	if len(res.Subreaches) < 2 {
+		return nil
+	}
+	share := MinReachDepths / float64(len(res.Subreaches))
+	cs := make([]Check, 0, len(res.Subreaches))
+	for _, sr := range res.Subreaches {
+		up, dn := res.Sections[sr.FromIndex], res.Sections[sr.ToIndex]
+		limit := share * (up.HydraulicDepth + dn.HydraulicDepth) / 2
+		cs = append(cs, Check{Name: "subreach length " + sr.From + " to " + sr.To, Value: sr.Length, Limit: limit, Relation: "≥",
+			Pass: sr.Length >= limit-roundOffSlack(up.Distance, dn.Distance), Source: fmt.Sprintf(srcSubreachLength, share)})
 	}
 	return cs
 }
@@ -697,15 +734,35 @@ func saFallChecks(res *SlopeArea) []Check {
 	for _, sr := range res.Subreaches {
 		hv := math.Max(res.Sections[sr.FromIndex].VelocityHead, res.Sections[sr.ToIndex].VelocityHead)
 		limit := math.Max(res.MinFall, hv)
+		slack := roundOffSlack(res.Sections[sr.FromIndex].WaterSurface, res.Sections[sr.ToIndex].WaterSurface)
 		cs = append(cs, Check{Name: "fall " + sr.From + " to " + sr.To, Value: sr.Fall, Limit: limit, Relation: "≥",
-			Pass: sr.Fall >= limit, Source: srcPairFall})
+			Pass: sr.Fall >= limit-slack, Source: srcPairFall})
 	}
 	return cs
 }
 
-// MarkSpreadEpsilon is the relative slack given to the mark-spread
-// tolerance so that a spread equal to it in the written decimals passes.
+// MarkSpreadEpsilon is the relative slack given to a mark's band when a
+// computed departure from the mark is compared with it, so that a
+// departure equal to the band in the written decimals lies inside.
 const MarkSpreadEpsilon = 1e-9
+
+// RoundOffRelative is the round-off allowed when a difference of two
+// inputs of the same kind (a fall or a mark spread from elevations, a
+// length from distances) is compared with its limit, relative to the
+// larger magnitude of the two: the difference is computed in binary from
+// decimals, so 50.94 − 50.79 comes out as 0.14999999999999147 and would
+// fail a limit of 0.15 it meets in the written figures. Double precision
+// carries about 1.1e-16 of a value, and the subtraction keeps the error of
+// its operands, so a few times 1e-16 of the larger magnitude is round-off;
+// 1e-9 of it stays far above that and far below any survey's resolution
+// (1e-9 of a 10 000 m elevation is 0.01 mm).
+const RoundOffRelative = 1e-9
+
+// roundOffSlack returns the round-off allowed in a difference of a and b:
+// RoundOffRelative of the larger of |a| and |b|.
+func roundOffSlack(a, b float64) float64 {
+	return RoundOffRelative * math.Max(math.Abs(a), math.Abs(b))
+}
 
 // SlopeConveyance is the single-section fallback: Q = K·√S with the given
 // friction slope s (dimensionless) and the section's conveyance at its

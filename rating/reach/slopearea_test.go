@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -249,14 +250,18 @@ func TestSlopeAreaSectionMatchesHydraulics(t *testing.T) {
 func TestSlopeAreaSides(t *testing.T) {
 	g1 := saTrapezoid(t, 10, 1, 100, 5, 0.04)
 	g2 := saTrapezoid(t, 10, 1, 99.8, 5, 0.04)
+	const (
+		meanWarn  = "section B has no right mark: its water surface is the left mark alone, not a mean of two"
+		rightWarn = "section B has no right mark: the left mark is used"
+	)
 	for _, tc := range []struct {
-		side     Side
-		want     float64
-		warnings int
+		side Side
+		want float64
+		warn string // "" for none about B's marks
 	}{
-		{MeanSide, 102.05, 0},
-		{LeftSide, 102.0, 0},
-		{RightSide, 102.1, 0},
+		{MeanSide, 102.05, meanWarn},
+		{LeftSide, 102.0, ""},
+		{RightSide, 102.1, rightWarn},
 	} {
 		secs := []Section{
 			{ID: "A", Geometry: g1, Distance: 0, Left: 102.0, Right: 102.1},
@@ -269,8 +274,18 @@ func TestSlopeAreaSides(t *testing.T) {
 		if saRelErr(res.Sections[0].WaterSurface, tc.want) > saClosedFormTol {
 			t.Errorf("side %v: water surface %g, want %g", tc.side, res.Sections[0].WaterSurface, tc.want)
 		}
-		if tc.side == RightSide && len(res.Warnings) == 0 {
-			t.Errorf("side right with no right mark at B: no warning")
+		if res.Sections[1].WaterSurface != 101.8 || res.Sections[1].MarksUsed != 1 {
+			t.Errorf("side %v: B's water surface %g from %d marks, want the left mark 101.8 alone",
+				tc.side, res.Sections[1].WaterSurface, res.Sections[1].MarksUsed)
+		}
+		var about []string
+		for _, w := range res.Warnings {
+			if strings.HasPrefix(w, "section B has no") {
+				about = append(about, w)
+			}
+		}
+		if tc.warn == "" && len(about) > 0 || tc.warn != "" && (len(about) != 1 || about[0] != tc.warn) {
+			t.Errorf("side %v: warnings about B's marks %q, want %q", tc.side, about, tc.warn)
 		}
 	}
 }
@@ -576,5 +591,112 @@ func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
 	_, k, _ := saTrapezoidAKT(10, 0, 1.6456, 0.03)
 	if want := k * math.Sqrt(2.0/2000); saRelErr(res.Discharge, want) > saClosedFormTol {
 		t.Errorf("Q = %.9g, uniform flow %.9g", res.Discharge, want)
+	}
+}
+
+// A fall or a mark spread equal to its limit in the written decimals
+// passes although the binary difference is a little less or more
+// (50.94 − 50.79 is 0.14999999999999147 in double precision, IEEE 754);
+// one a millimetre beyond the limit still warns.
+func TestSlopeAreaChecksAtTheirLimit(t *testing.T) {
+	up, dn := 50.94, 50.79 // variables: a constant expression would be exact
+	if d := up - dn; !(d < MinFallSI) {
+		t.Fatalf("50.94 - 50.79 = %.17g: the case no longer shows round-off", d)
+	}
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name         string
+		up, dn       [2]float64 // left, right marks
+		check        string
+		pass         bool
+		value, limit float64
+	}{
+		{"fall at the limit", [2]float64{50.94, 50.94}, [2]float64{50.79, 50.79}, "fall A to B", true, 0.15, MinFallSI},
+		{"fall a millimetre short", [2]float64{50.94, 50.94}, [2]float64{50.791, 50.791}, "fall A to B", false, 0.149, MinFallSI},
+		{"fall at the limit, one mark", [2]float64{1234.56, nan}, [2]float64{1234.41, nan}, "fall A to B", true, 0.15, MinFallSI},
+		{"spread at the limit", [2]float64{50.94, 50.79}, [2]float64{50.4, 50.4}, "mark spread A", true, 0.15, MarkSpreadSI},
+		{"spread at the limit, high datum", [2]float64{4321.17, 4321.02}, [2]float64{4320.6, 4320.6}, "mark spread A", true, 0.15, MarkSpreadSI},
+		{"spread a millimetre over", [2]float64{50.941, 50.79}, [2]float64{50.4, 50.4}, "mark spread A", false, 0.151, MarkSpreadSI},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			bed := math.Floor(tc.dn[0]) - 3
+			secs := []Section{
+				{ID: "A", Geometry: saTrapezoid(t, 30, 2, bed+0.1, 6, 0.04), Distance: 0, Left: tc.up[0], Right: tc.up[1]},
+				{ID: "B", Geometry: saTrapezoid(t, 30, 2, bed, 6, 0.04), Distance: 165, Left: tc.dn[0], Right: tc.dn[1]},
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, c := range res.Checks {
+				if c.Name != tc.check {
+					continue
+				}
+				if c.Pass != tc.pass || saRelErr(c.Value, tc.value) > saClosedFormTol || c.Limit != tc.limit {
+					t.Errorf("%s: pass %v value %.17g limit %g, want pass %v value %g limit %g",
+						c.Name, c.Pass, c.Value, c.Limit, tc.pass, tc.value, tc.limit)
+				}
+				return
+			}
+			t.Errorf("no check %q in %+v", tc.check, res.Checks)
+		})
+	}
+}
+
+// Each subreach of a reach of three or more sections is checked against
+// its equal share of 75 mean depths, at the hydraulic depths A/T of its
+// two sections (closed form for a trapezoid, Chow 1959, table 2-1); a
+// subreach of a millimetre warns, and a reach of two sections has no
+// subreach check beside the reach's.
+func TestSlopeAreaSubreachLength(t *testing.T) {
+	const b, z, n = 20.0, 2.0, 0.04
+	depth := func(y float64) float64 {
+		a, _, top := saTrapezoidAKT(b, z, y, n)
+		return a / top
+	}
+	for _, tc := range []struct {
+		name      string
+		distances []float64
+		want      map[string]bool // check name: pass
+	}{
+		{"even", []float64{0, 165, 340}, map[string]bool{"subreach length A to B": true, "subreach length B to C": true}},
+		{"a millimetre", []float64{0, 165, 165.001}, map[string]bool{"subreach length A to B": true, "subreach length B to C": false}},
+		{"two sections", []float64{0, 340}, map[string]bool{}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			// Depth 2 m at every section, the bed and marks falling 0.3 m per section.
+			var secs []Section
+			for i, d := range tc.distances {
+				bed := 100 - 0.3*float64(i)
+				secs = append(secs, Section{ID: string(rune('A' + i)), Geometry: saTrapezoid(t, b, z, bed, 5, n),
+					Distance: d, Left: bed + 2, Right: math.NaN()})
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			share := MinReachDepths / float64(len(secs)-1)
+			found := 0
+			for _, c := range res.Checks {
+				if !strings.HasPrefix(c.Name, "subreach length") {
+					continue
+				}
+				found++
+				pass, ok := tc.want[c.Name]
+				if !ok {
+					t.Errorf("unexpected check %+v", c)
+					continue
+				}
+				if c.Pass != pass || saRelErr(c.Limit, share*depth(2)) > saClosedFormTol {
+					t.Errorf("%s: pass %v limit %g, want pass %v limit %g", c.Name, c.Pass, c.Limit, pass, share*depth(2))
+				}
+				if !pass && !slices.ContainsFunc(res.Warnings, func(w string) bool { return strings.Contains(w, `"`+c.Name+`": warn`) }) {
+					t.Errorf("%s warns but is not in the warnings: %q", c.Name, res.Warnings)
+				}
+			}
+			if found != len(tc.want) {
+				t.Errorf("%d subreach length checks, want %d", found, len(tc.want))
+			}
+		})
 	}
 }

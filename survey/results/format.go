@@ -46,6 +46,21 @@ func FormatLength(v float64) string {
 	return s
 }
 
+// lengthDecimals returns the decimals a column of lengths (distances
+// along a reach) needs so that no value loses a figure it has to
+// LengthDecimals decimals: at least one, at most LengthDecimals. 165 and
+// 165.001 need three, or both would read 165.0.
+func lengthDecimals(vals ...float64) int {
+	d := 1
+	for _, v := range vals {
+		s := FormatLength(v)
+		if i := strings.IndexByte(s, '.'); i >= 0 && !strings.ContainsAny(s, "eE") {
+			d = max(d, len(s)-i-1)
+		}
+	}
+	return min(d, LengthDecimals)
+}
+
 func writeRecord(w *bufio.Writer, rec []string) {
 	for i, s := range rec {
 		if i > 0 {

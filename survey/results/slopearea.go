@@ -209,7 +209,11 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	t.b.WriteString(siteLine(rep.Provenance))
 	t.line("")
 	t.line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
-	if un := rep.Uncertainty; un != nil {
+	switch un := rep.Uncertainty; {
+	case un == nil:
+	case un.Failed >= un.Draws:
+		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
+	default:
 		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
 			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
 	}
@@ -217,7 +221,7 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	case reach.MethodSlopeArea:
 		t.line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
 		t.line("  subreaches    %s", saSubreachWords(r))
-		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, 1), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
+		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, lengthDecimals(saDistances(r)...)), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
 		t.line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
@@ -269,8 +273,9 @@ func saTextInputs(t *textReport, rep reach.Report) {
 	t.line("")
 	t.line("Inputs (reach table)")
 	rows := [][]string{}
+	dec := lengthDecimals(saDistances(r)...)
 	for i, s := range r.Sections {
-		row := []string{s.ID, fixed(s.Distance, 1), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
+		row := []string{s.ID, fixed(s.Distance, dec), fixed(s.Left, 3), fixed(s.Right, 3), fixed(s.WaterSurface, 3), "", "", ""}
 		if i < len(rep.Sections) {
 			rr := rep.Sections[i]
 			row[5], row[6], row[7] = saDash(rr.Quality.String()), rr.Survey, rr.Note
@@ -320,12 +325,13 @@ func saTextSubreaches(t *textReport, r reach.SlopeArea) {
 	t.line("")
 	t.line("Subreaches (losses at the peak discharge)")
 	var rows [][]string
+	dec := lengthDecimals(saDistances(r)...)
 	for _, s := range r.Subreaches {
 		kind := "contracting"
 		if s.Expanding {
 			kind = "expanding"
 		}
-		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, 1), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
 			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 	}
 	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)
@@ -356,7 +362,11 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 	t.line("")
 	t.line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
 	t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
-	t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+	if un.MarkSD > 0 {
+		t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
+	} else {
+		t.line("  marks          not varied: every mark held at its elevation, its quality rating set aside")
+	}
 	sds := make([]string, 0, len(un.WaterSurfaceSD))
 	for i, v := range un.WaterSurfaceSD {
 		if i < len(r.Sections) {
@@ -401,6 +411,16 @@ func saSideWords(s reach.Side) string {
 		return "the right"
 	}
 	return "the mean of the left and right"
+}
+
+// saDistances returns the distances of the reach's sections, from which
+// its lengths come.
+func saDistances(r reach.SlopeArea) []float64 {
+	out := make([]float64, len(r.Sections))
+	for i, s := range r.Sections {
+		out[i] = s.Distance
+	}
+	return out
 }
 
 func saDash(s string) string {

@@ -2,6 +2,7 @@ package results_test
 
 import (
 	"bytes"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -49,6 +50,85 @@ func TestSlopeAreaTextSubreaches(t *testing.T) {
 			}
 			if got != tc.want {
 				t.Errorf("got  %q\nwant %q", got, tc.want)
+			}
+		})
+	}
+}
+
+// The band line and the marks line of the uncertainty follow what was
+// drawn: no band when no draw solved, and marks held when their standard
+// deviation is zero (no mark varied, rated or not).
+func TestSlopeAreaTextUncertaintyWords(t *testing.T) {
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name string
+		un   reach.Uncertainty
+		want []string
+	}{
+		{"band", reach.Uncertainty{Draws: 200, Failed: 10, MarkSD: 0.03, P05: 90, P50: 100, P95: 110},
+			[]string{"  90 % band     90 to 110 m3/s (5th to 95th percentile, median 100, 190 draws)",
+				"  marks          normal about each mark, standard deviation 0.03 m per mark unless its quality says otherwise"}},
+		{"no band", reach.Uncertainty{Draws: 200, Failed: 200, MarkSD: 0.03, P05: nan, P50: nan, P95: nan},
+			[]string{"  90 % band     none: no draw of 200 had a solution"}},
+		{"marks held", reach.Uncertainty{Draws: 200, MarkSD: 0, P05: 90, P50: 100, P95: 110},
+			[]string{"  marks          not varied: every mark held at its elevation, its quality rating set aside"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
+				SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan}
+			var b bytes.Buffer
+			if err := results.WriteSlopeAreaText(&b, reach.Report{Result: res, Uncertainty: &tc.un}); err != nil {
+				t.Fatal(err)
+			}
+			lines := strings.Split(b.String(), "\n")
+			for _, w := range tc.want {
+				found := false
+				for _, l := range lines {
+					found = found || l == w
+				}
+				if !found {
+					t.Errorf("no line %q in\n%s", w, b.String())
+				}
+			}
+		})
+	}
+}
+
+// Distances and lengths are written with the decimals the reach needs (one
+// at least), so that sections a millimetre apart do not both read 165.0.
+func TestSlopeAreaTextLengthDecimals(t *testing.T) {
+	nan := math.NaN()
+	for _, tc := range []struct {
+		name      string
+		distances []float64
+		want      []string
+	}{
+		{"whole metres", []float64{0, 165, 340}, []string{"  XS-2  165.0", "  XS-2 to XS-3  175.0", "length 340.0 m"}},
+		{"a millimetre", []float64{0, 165, 165.001}, []string{"  XS-2  165.000", "  XS-3  165.001", "  XS-2 to XS-3  0.001", "length 165.001 m"}},
+		{"finer than the written decimals", []float64{0, 10.00001, 20}, []string{"  XS-2  10.0", "  XS-1 to XS-2  10.0"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
+				SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan}
+			for i, d := range tc.distances {
+				id := fmt.Sprintf("XS-%d", i+1)
+				res.Sections = append(res.Sections, reach.SectionResult{ID: id, Distance: d, Left: nan, Right: nan})
+				if i > 0 {
+					res.Subreaches = append(res.Subreaches, reach.Subreach{From: res.Sections[i-1].ID, To: id,
+						Length: d - tc.distances[i-1], Discharge: 100})
+				}
+			}
+			res.Length = tc.distances[len(tc.distances)-1] - tc.distances[0]
+			var b bytes.Buffer
+			if err := results.WriteSlopeAreaText(&b, reach.Report{Result: res}); err != nil {
+				t.Fatal(err)
+			}
+			// Table cells are padded: compare with runs of spaces squeezed.
+			text := strings.Join(strings.Fields(strings.ReplaceAll(b.String(), "\n", " \n ")), " ")
+			for _, w := range tc.want {
+				if !strings.Contains(text, strings.Join(strings.Fields(w), " ")) {
+					t.Errorf("no %q in\n%s", w, b.String())
+				}
 			}
 		})
 	}

@@ -90,7 +90,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 	switch r.Method {
 	case reach.MethodSlopeArea:
 		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
-		add("reach length", num("0.0", r.Length), L)
+		add("reach length", num(workbook.DecimalsFormat(lengthDecimals(saDistances(r)...)), r.Length), L)
 		add("fall", num("0.000", r.Fall), L)
 		add("least subreach discharge", num(workbook.FormatSig3, r.SubreachMin), Q)
 		add("greatest subreach discharge", num(workbook.FormatSig3, r.SubreachMax), Q)
@@ -123,7 +123,7 @@ func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 	s, err := b.Table(SheetReachInputs, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "survey", Width: 24},
-		{Name: "distance", Unit: L, Format: "0.0"},
+		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
 		{Name: "ws_left", Unit: L, Format: "0.000"},
 		{Name: "ws_right", Unit: L, Format: "0.000"},
 		{Name: "quality", Width: 10},
@@ -152,7 +152,7 @@ func writeSASections(b *workbook.Book, rep reach.Report) error {
 	L := u.Length()
 	s, err := b.Table(SheetSections, []workbook.Column{
 		{Name: "section", Width: 12},
-		{Name: "distance", Unit: L, Format: "0.0"},
+		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
 		{Name: "water_surface", Unit: L, Format: "0.000"},
 		{Name: "thalweg", Unit: L, Format: "0.000"},
 		{Name: "area", Unit: u.Area(), Format: workbook.FormatSig3},
@@ -201,7 +201,7 @@ func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 	s, err := b.Table(SheetSubreaches, []workbook.Column{
 		{Name: "from", Width: 12},
 		{Name: "to", Width: 12},
-		{Name: "length", Unit: L, Format: "0.0"},
+		{Name: "length", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
 		{Name: "fall", Unit: L, Format: "0.000"},
 		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "flow", Width: 12},
@@ -287,7 +287,7 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		{"draws without a solution", nil, un.Failed, ""},
 		{"seed", nil, fmt.Sprint(un.Seed), ""},
 		{"coefficient of variation of n (log-normal)", nil, un.NCV, ""},
-		{"standard deviation of one mark (normal)", nil, un.MarkSD, L},
+		{markSDLabel(un.MarkSD), nil, un.MarkSD, L},
 		{"dQ/dn, every n together", nil, un.DQDN, Q + " per unit n"},
 		{"dQ/dn, every n together, per 0.001 of n", nil, un.DQDNPerMilli, Q + " per 0.001 n"},
 	}
@@ -307,4 +307,13 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		}
 	}
 	return s.Flush()
+}
+
+// markSDLabel names the uncertainty sheet's row of the mark standard
+// deviation sd: zero means no mark was varied, rated or not.
+func markSDLabel(sd float64) string {
+	if sd > 0 {
+		return "standard deviation of one mark (normal)"
+	}
+	return "standard deviation of one mark: none, every mark held (its quality set aside)"
 }
