@@ -3,6 +3,7 @@ package rating
 import (
 	"fmt"
 	"math"
+	"slices"
 
 	"wetline/subdivide"
 )
@@ -40,7 +41,8 @@ type SectionComparison struct {
 	GroundA, GroundB Ground
 	// Units is the unit system of every value.
 	Units Units
-	// Rows are in the order of the stages given.
+	// Rows are in increasing stage, each stage once, whatever the order
+	// of the stages given.
 	Rows []SectionDifference
 	// Warnings gather both tables' warnings, each prefixed with its survey.
 	Warnings []string
@@ -51,7 +53,9 @@ type SectionComparison struct {
 // CompareSections computes area, wetted perimeter, top width and
 // conveyance of two surveys of one section (before and after a flood, say)
 // at each stage, with Compute, and their differences B − A. Both surveys
-// are in one datum and unit system. Nil stages mean a default range: from
+// are in one datum and unit system. The stages are compared in increasing
+// order with repeats dropped (as StageSpec lays out a list); stages itself
+// is not changed. Nil stages mean a default range: from
 // the lower of the two lowest points to the lower of the two sections'
 // tops, in a round step (as DefaultStages lays out one section). The slope
 // in opt is not needed (conveyance does not depend on it); when it is not
@@ -61,6 +65,8 @@ func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (Se
 	c := SectionComparison{A: geometryName(a, "A"), B: geometryName(b, "B"), Units: opt.Units}
 	if stages == nil {
 		stages = commonStages(a, b)
+	} else {
+		stages = slices.Compact(slices.Sorted(slices.Values(stages)))
 	}
 	if !(opt.Slope > 0) {
 		opt.Slope = 1
