@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // ReadRatingCSV reads back a rating table written by WriteRatingCSV, from
@@ -54,8 +55,10 @@ const (
 
 // RatingFromTable turns a table with the columns of RatingColumns and
 // ExtraRatingColumns into a rating table. Stage and discharge are
-// required in every row and the stages must increase from row to row
-// (ErrRatingStageOrder at the stage cell of a row that does not); every
+// required in every row, the stages must increase from row to row
+// (ErrRatingStageOrder at the stage cell of a row that does not) and no
+// discharge may be negative (gauged.ErrRatingNegative at its cell, as a
+// rating table is read for the record and compare); every
 // other column may be missing or blank (NaN). Per-subsection columns are
 // not read. Bottom is stage − depth where a depth is given, else the
 // lowest stage; Top is the highest stage. Slope is the friction slope
@@ -103,6 +106,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 				cells.errs = append(cells.errs, t.At(rec, cs, fmt.Errorf("%w (%g after %g)", ErrRatingStageOrder, r.Stage, prev)))
 				continue
 			}
+		}
+		if r.Discharge < 0 {
+			cells.errs = append(cells.errs, t.At(rec, cq, gauged.ErrRatingNegative))
+			continue
 		}
 		if math.IsNaN(r.Stage) || math.IsNaN(r.Discharge) {
 			continue

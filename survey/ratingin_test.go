@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 func TestRatingFromTableErrors(t *testing.T) {
@@ -22,6 +23,8 @@ func TestRatingFromTableErrors(t *testing.T) {
 		{"stage decreasing", "stage,discharge\n1,0\n2,1\n1.5,2\n", "t.csv:4:1: stage", ErrRatingStageOrder},
 		{"stage repeated", "stage,discharge\n1,0\n1,0\n2,1\n", "t.csv:3:1: stage", ErrRatingStageOrder},
 		{"stage decreasing in a later column", "discharge,stage\n0,2\n1,1\n", "t.csv:3:2: stage", ErrRatingStageOrder},
+		{"negative discharge", "stage,discharge\n1,0\n2,-5\n3,9\n", `t.csv:3:2: discharge "-5"`, gauged.ErrRatingNegative},
+		{"negative discharge in a later column", "discharge,stage\n-0.001,1\n2,2\n", `t.csv:2:1: discharge "-0.001"`, gauged.ErrRatingNegative},
 	} {
 		_, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
 		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, tc.is) {
@@ -48,6 +51,9 @@ func FuzzParseRatingCSV(f *testing.F) {
 		for i, r := range tab.Rows {
 			if math.IsNaN(r.Stage) || math.IsInf(r.Stage, 0) || math.IsNaN(r.Discharge) {
 				t.Fatalf("row with an undefined stage or discharge: %+v", r)
+			}
+			if r.Discharge < 0 {
+				t.Fatalf("negative discharge accepted: %+v", r)
 			}
 			if i > 0 && !(r.Stage > tab.Rows[i-1].Stage) {
 				t.Fatalf("stage %g after %g accepted", r.Stage, tab.Rows[i-1].Stage)
