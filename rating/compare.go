@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 
 	"wetline/subdivide"
 )
@@ -48,6 +49,30 @@ type SectionComparison struct {
 	Warnings []string
 	// Figures are the report's pictures (none until drawn).
 	Figures []Figure
+	// DatumA and DatumB are the datums the surveys name (their site
+	// keys; "" when not named), set by SetDatums.
+	DatumA, DatumB string
+}
+
+// SetDatums records the datums surveys A and B name (free text, "" when
+// not named) and, when both are named and differ (ignoring case and
+// surrounding blanks), adds a warning naming both and clears the datum of
+// Provenance.Site (it is neither survey's alone): the differences of the
+// comparison then mix a change of datum with scour or fill.
+func (c *SectionComparison) SetDatums(a, b string) {
+	c.DatumA, c.DatumB = a, b
+	if c.DatumsDiffer() {
+		c.Provenance.Site.Datum = ""
+		c.Warnings = append(c.Warnings, fmt.Sprintf("the surveys name different datums (%s: %q; %s: %q): the comparison takes their elevations as one datum, so bring both to one before reading the differences as scour or fill",
+			c.A, strings.TrimSpace(a), c.B, strings.TrimSpace(b)))
+	}
+}
+
+// DatumsDiffer reports whether both surveys name a datum and the two
+// differ (ignoring case and surrounding blanks).
+func (c *SectionComparison) DatumsDiffer() bool {
+	a, b := strings.TrimSpace(c.DatumA), strings.TrimSpace(c.DatumB)
+	return a != "" && b != "" && !strings.EqualFold(a, b)
 }
 
 // CompareSections computes area, wetted perimeter, top width and

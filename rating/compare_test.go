@@ -3,6 +3,7 @@ package rating_test
 import (
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -97,6 +98,35 @@ func TestCompareSectionsStageOrder(t *testing.T) {
 		}
 		if !slices.Equal(given, tt.given) {
 			t.Errorf("stages %v were changed to %v", tt.given, given)
+		}
+	}
+}
+
+// TestSectionComparisonDatums: two surveys naming different datums are
+// warned of, naming both, and the site keeps neither; the same datum (in
+// any case, with blanks around it) or a datum left unnamed is not.
+func TestSectionComparisonDatums(t *testing.T) {
+	for _, tt := range []struct {
+		a, b   string
+		differ bool
+	}{
+		{"local datum A", "AHD", true},
+		{"AHD", "AHD", false},
+		{"AHD", " ahd ", false},
+		{"", "AHD", false},
+		{"", "", false},
+	} {
+		c := rating.SectionComparison{A: "2019.csv", B: "2025.csv", Provenance: rating.Provenance{Site: rating.Site{Datum: tt.a}}}
+		c.SetDatums(tt.a, tt.b)
+		if c.DatumsDiffer() != tt.differ {
+			t.Errorf("%q, %q: differ %v, want %v", tt.a, tt.b, c.DatumsDiffer(), tt.differ)
+		}
+		warned := len(c.Warnings) == 1 && strings.Contains(c.Warnings[0], `2019.csv: "local datum A"; 2025.csv: "AHD"`)
+		if warned != tt.differ || (!tt.differ && len(c.Warnings) != 0) {
+			t.Errorf("%q, %q: warnings %q", tt.a, tt.b, c.Warnings)
+		}
+		if want := map[bool]string{true: "", false: tt.a}[tt.differ]; c.Provenance.Site.Datum != want {
+			t.Errorf("%q, %q: site datum %q, want %q", tt.a, tt.b, c.Provenance.Site.Datum, want)
 		}
 	}
 }

@@ -235,6 +235,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(ps[0].Site.Merge(ps[1].Site), f.site)}
 	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
 	c.Warnings = append(warnings, c.Warnings...)
+	c.SetDatums(ps[0].Site.Datum, ps[1].Site.Datum)
 	if f.plots != "" || format == "xlsx" {
 		figs, w, err := plotting.DrawSectionComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
 		if err != nil {
