@@ -98,6 +98,9 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if p != nil {
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
+		if w := t.BottomMismatch(p.Geometry.Bottom(), p.Source()); w != "" {
+			warnings = append(warnings, w)
+		}
 		in.Ground, in.Geometry = p.Ground, f.geometry()
 		in.Site = siteWith(p.Site, f.site).Name
 	}

@@ -182,3 +182,38 @@ func TestPlotSectionUnits(t *testing.T) {
 		})
 	}
 }
+
+// plot --section warns when the table's bottom (stage − depth, plus
+// --datum) is more than 0.5 m from the section's lowest point: a table of
+// gauge heights on a gauge whose zero is at 10 m, drawn over the test
+// trapezoid whose bottom is at 10 m, agrees only with --datum 10.
+func TestPlotSectionBottomMismatch(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	table := filepath.Join(dir, "gauge.csv")
+	if err := os.WriteFile(table, []byte("stage,depth,discharge\n0,0,0\n1,1,5\n2,2,20\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tt := range []struct {
+		name string
+		args []string
+		want string // "" for no warning
+	}{
+		{"datum given", []string{"--datum", "10"}, ""},
+		{"datum forgotten", nil, "the table's bottom, elevation 0.000 m (stage − depth), lies 10.000 m below the lowest point of testdata/record/xs-a.csv (10.000 m)"},
+		{"datum wrong", []string{"--datum", "9"}, "elevation 9.000 m (stage − depth + datum), lies 1.000 m below"},
+		{"within 0.5 m", []string{"--datum", "10.4"}, ""},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			args := append([]string{"plot", table, "--section", recSectionA, "-o", filepath.Join(dir, strings.ReplaceAll(tt.name, " ", "-"))}, tt.args...)
+			_, errs, code := runCLI(t, args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			got := strings.Contains(errs, "the table's bottom")
+			if got != (tt.want != "") || !strings.Contains(errs, tt.want) {
+				t.Errorf("stderr %q, want %q", errs, tt.want)
+			}
+		})
+	}
+}
