@@ -108,6 +108,10 @@ func TestPlotErrors(t *testing.T) {
 	if err := os.WriteFile(same, []byte("discharge,stage\n0,1\n5,2\n5,2\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	periods := filepath.Join(dir, "periods.csv")
+	if err := os.WriteFile(periods, []byte("valid_from,stage,discharge\n2024-01-01,1,0\n,2,5\n,3,9\n2025-01-01,1,0\n,2,6\n,3,10\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	neg := filepath.Join(dir, "neg.csv")
 	if err := os.WriteFile(neg, []byte("stage,discharge\n1,0\n2,-5\n3,9\n"), 0o644); err != nil {
 		t.Fatal(err)
@@ -124,6 +128,7 @@ func TestPlotErrors(t *testing.T) {
 		{"missing file", []string{"plot", filepath.Join(dir, "none.csv")}, false, "none.csv"},
 		{"stage decreasing", []string{"plot", down}, false, `down.csv:4:1: stage "1.5"`},
 		{"stage repeated", []string{"plot", same}, false, `same.csv:4:2: stage "2"`},
+		{"several periods", []string{"plot", periods}, false, `periods.csv: holds 2 rating periods (a valid_from column): one rating per file is read`},
 		{"negative discharge", []string{"plot", neg}, false, `neg.csv:3:2: discharge "-5": discharge must not be negative`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
