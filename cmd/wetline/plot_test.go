@@ -222,3 +222,44 @@ func TestPlotSectionBottomMismatch(t *testing.T) {
 		})
 	}
 }
+
+// plot reads a workbook table from the sheet --sheet names (when the
+// survey is not a workbook) or --table-sheet names, refuses an unknown
+// sheet and a sheet named for a CSV table; the demo's results workbook
+// holds the rating on its "rating" sheet and the survey on "survey".
+func TestPlotSheets(t *testing.T) {
+	t.Parallel()
+	demo, _ := demoOutput(t)
+	book := filepath.Join(demo, "tallow-xs1-results.xlsx")
+	csv := filepath.Join(demo, "tallow-xs1-rating.csv")
+	survey := filepath.Join(demo, "tallow-xs1.csv")
+	for _, tt := range []struct {
+		name   string
+		args   []string
+		code   int
+		errHas string // "" for success
+	}{
+		{"first sheet is no table", []string{book}, 1, `['summary'] row 1: stage: missing column`},
+		{"--sheet names the table's", []string{book, "--sheet", "rating"}, 0, ""},
+		{"--sheet with a survey CSV", []string{book, "--section", survey, "--sheet", "rating"}, 0, ""},
+		{"--table-sheet", []string{book, "--table-sheet", "rating"}, 0, ""},
+		{"both workbooks", []string{book, "--section", book, "--sheet", "survey", "--table-sheet", "rating"}, 0, ""},
+		{"unknown sheet", []string{book, "--sheet", "ratings"}, 1, `['ratings']: no such sheet (sheets: summary, rating,`},
+		{"unknown table sheet", []string{book, "--section", book, "--sheet", "survey", "--table-sheet", "nosuch"}, 1, `['nosuch']: no such sheet`},
+		{"sheet of a CSV table", []string{csv, "--sheet", "rating"}, 2, "--sheet rating: " + csv + " is not a workbook"},
+		{"table sheet of a CSV table", []string{csv, "--section", survey, "--table-sheet", "rating"}, 2, "--table-sheet rating: " + csv + " is not a workbook"},
+		{"both flags for the table", []string{book, "--sheet", "rating", "--table-sheet", "rating"}, 2, "both name the table's sheet"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			out := filepath.Join(t.TempDir(), "figures")
+			_, errs, code := runCLI(t, append(append([]string{"plot"}, tt.args...), "-o", out)...)
+			if code != tt.code || !strings.Contains(errs, tt.errHas) {
+				t.Fatalf("exit %d, want %d; stderr %q, want %q", code, tt.code, errs, tt.errHas)
+			}
+			figs, _ := filepath.Glob(filepath.Join(out, "*-rating.png"))
+			if (len(figs) == 1) != (tt.code == 0) {
+				t.Errorf("rating figures %v", figs)
+			}
+		})
+	}
+}
