@@ -3,6 +3,8 @@ package rating
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strings"
 
 	"wetline/subdivide"
 )
@@ -40,18 +42,45 @@ type SectionComparison struct {
 	GroundA, GroundB Ground
 	// Units is the unit system of every value.
 	Units Units
-	// Rows are in the order of the stages given.
+	// Rows are in increasing stage, each stage once, whatever the order
+	// of the stages given.
 	Rows []SectionDifference
 	// Warnings gather both tables' warnings, each prefixed with its survey.
 	Warnings []string
 	// Figures are the report's pictures (none until drawn).
 	Figures []Figure
+	// DatumA and DatumB are the datums the surveys name (their site
+	// keys; "" when not named), set by SetDatums.
+	DatumA, DatumB string
+}
+
+// SetDatums records the datums surveys A and B name (free text, "" when
+// not named) and, when both are named and differ (ignoring case and
+// surrounding blanks), adds a warning naming both and clears the datum of
+// Provenance.Site (it is neither survey's alone): the differences of the
+// comparison then mix a change of datum with scour or fill.
+func (c *SectionComparison) SetDatums(a, b string) {
+	c.DatumA, c.DatumB = a, b
+	if c.DatumsDiffer() {
+		c.Provenance.Site.Datum = ""
+		c.Warnings = append(c.Warnings, fmt.Sprintf("the surveys name different datums (%s: %q; %s: %q): the comparison takes their elevations as one datum, so bring both to one before reading the differences as scour or fill",
+			c.A, strings.TrimSpace(a), c.B, strings.TrimSpace(b)))
+	}
+}
+
+// DatumsDiffer reports whether both surveys name a datum and the two
+// differ (ignoring case and surrounding blanks).
+func (c *SectionComparison) DatumsDiffer() bool {
+	a, b := strings.TrimSpace(c.DatumA), strings.TrimSpace(c.DatumB)
+	return a != "" && b != "" && !strings.EqualFold(a, b)
 }
 
 // CompareSections computes area, wetted perimeter, top width and
 // conveyance of two surveys of one section (before and after a flood, say)
 // at each stage, with Compute, and their differences B − A. Both surveys
-// are in one datum and unit system. Nil stages mean a default range: from
+// are in one datum and unit system. The stages are compared in increasing
+// order with repeats dropped (as StageSpec lays out a list); stages itself
+// is not changed. Nil stages mean a default range: from
 // the lower of the two lowest points to the lower of the two sections'
 // tops, in a round step (as DefaultStages lays out one section). The slope
 // in opt is not needed (conveyance does not depend on it); when it is not
@@ -61,6 +90,8 @@ func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (Se
 	c := SectionComparison{A: geometryName(a, "A"), B: geometryName(b, "B"), Units: opt.Units}
 	if stages == nil {
 		stages = commonStages(a, b)
+	} else {
+		stages = slices.Compact(slices.Sorted(slices.Values(stages)))
 	}
 	if !(opt.Slope > 0) {
 		opt.Slope = 1

@@ -20,8 +20,13 @@ import (
 //	Lotter         (sum of conveyances)  n = P·R^(5/3) / Σ(P_i·R_i^(5/3)/n_i)  eq. 6-19
 //
 // with P = ΣP_i, R = ΣA_i/P and R_i = A_i/P_i. The parts are the vertical
-// subsections of the split, so Lotter's n reproduces the split's summed
-// conveyance of the region exactly.
+// subsections of the split. A vertical wall with its own n (a subsection of
+// no width) holds no water, so Lotter's sum cannot count it (its R_i is 0);
+// for Lotter the walls are first folded into the subsections they face, as
+// the split conveys them (FoldWalls, Horton–Einstein), so Lotter's n
+// reproduces the split's summed conveyance of the region exactly.
+// Horton–Einstein and Pavlovskii weigh every part by its wetted perimeter
+// alone and count a wall with its own n as it is.
 type Composite int
 
 // Composite roughness methods.
@@ -62,7 +67,9 @@ func ParseComposite(s string) (Composite, error) {
 
 // CompositeN returns the equivalent n of parts with wetted perimeters p,
 // areas a and roughness n by method c (see Composite). Parts with no
-// wetted perimeter are left out. It returns NaN when nothing is wetted or
+// wetted perimeter are left out. Lotter's sum has no term for a part with
+// perimeter but no area (a vertical wall): fold walls into the parts they
+// face first (FoldWalls), as CompositeGeometry does. It returns NaN when nothing is wetted or
 // c is Split, and 0 when a wetted part has no n (so that Hydraulics reports
 // the missing n).
 //
@@ -172,7 +179,11 @@ func (c *compositeGeometry) At(stage float64, opt subdivide.Options) (subdivide.
 	for i := range merged {
 		merged[i].Subsection = c.layout[i]
 	}
-	for i, s := range w.Subs {
+	parts := w.Subs
+	if c.method == Lotter {
+		parts = FoldWalls(parts) // a wall has no area, so no term of its own in Lotter's sum
+	}
+	for i, s := range parts {
 		j := c.group[i]
 		merged[j].Area += s.Area
 		merged[j].WettedPerimeter += s.WettedPerimeter

@@ -95,3 +95,62 @@ func TestCompositeGeometry(t *testing.T) {
 		}
 	}
 }
+
+// TestCompositeWalls: a vertical wall with its own n has wetted perimeter
+// but no area. Rectangle 8 m wide at depth y = 1 m, S = 0.001 (SI), walls of
+// n_w, bed n 0.02 from 0 to 4 and 0.04 from 4 to 8; each wall conveys with
+// the bed part it faces (Horton–Einstein, Chow 1959, eq. 6-17), giving two
+// parts of A_i = 4, P_i = 5 and
+//
+//	n_i = ((4·n_bed^1.5 + 1·n_w^1.5)/5)^(2/3),
+//
+// so Lotter (Chow 1959, eq. 6-19) by hand is, with P = 10, R = 8/10,
+//
+//	n = 10·0.8^(5/3) / Σ 5·0.8^(5/3)/n_i = 2 / Σ 1/n_i,
+//
+// K = 8·0.8^(2/3)/n; Horton–Einstein over bed and walls is
+// n = ((4·0.02^1.5 + 4·0.04^1.5 + 2·n_w^1.5)/10)^(2/3) and Pavlovskii
+// n = ((4·0.02² + 4·0.04² + 2·n_w²)/10)^(1/2). Lotter's K equals the
+// split's, and a rougher wall lowers K by every method.
+func TestCompositeWalls(t *testing.T) {
+	box := func(nw float64) *subdivide.Profile {
+		return compile(t, subdivide.Section{Points: []subdivide.Point{{Station: 0, Elevation: 3}, {Station: 0, Elevation: 0},
+			{Station: 4, Elevation: 0}, {Station: 8, Elevation: 0}, {Station: 8, Elevation: 3}}, N: []float64{nw, 0.02, 0.04, nw}})
+	}
+	he := func(nb, nw float64) float64 { return math.Pow((4*math.Pow(nb, 1.5)+math.Pow(nw, 1.5))/5, 2.0/3) }
+	const tol = 1e-12 // relative; the same formulas evaluated in another order
+	kOf := func(n float64) float64 { return 8 * math.Pow(0.8, 2.0/3) / n }
+	last := map[Composite]float64{}                  // K with the previous, smoother walls
+	for _, nw := range []float64{0.015, 0.04, 0.1} { // increasing
+		lotter := 2 / (1/he(0.02, nw) + 1/he(0.04, nw))
+		horton := math.Pow((4*math.Pow(0.02, 1.5)+4*math.Pow(0.04, 1.5)+2*math.Pow(nw, 1.5))/10, 2.0/3)
+		pavlovskii := math.Sqrt((4*0.02*0.02 + 4*0.04*0.04 + 2*nw*nw) / 10)
+		split := rowAt(t, box(nw), 1, 0.001, SI)
+		for _, tt := range []struct {
+			c    Composite
+			want float64 // composite n
+		}{{Lotter, lotter}, {HortonEinstein, horton}, {Pavlovskii, pavlovskii}} {
+			tab, err := Compute(box(nw), []float64{1}, Options{Slope: 0.001, Composite: tt.c})
+			if err != nil {
+				t.Fatal(err)
+			}
+			r := tab.Rows[0]
+			if len(r.Subs) != 1 || relErr(r.Subs[0].N, tt.want) > tol {
+				t.Errorf("walls n %g, %v: subsections %d, n %.6g, want %.6g", nw, tt.c, len(r.Subs), r.Subs[0].N, tt.want)
+			}
+			if relErr(r.Conveyance, kOf(tt.want)) > tol {
+				t.Errorf("walls n %g, %v: K %.6g, want %.6g", nw, tt.c, r.Conveyance, kOf(tt.want))
+			}
+			if relErr(r.WettedPerimeter, 10) > tol || relErr(r.Subs[0].WettedPerimeter, 10) > tol {
+				t.Errorf("walls n %g, %v: perimeter %g (subsection %g), want 10", nw, tt.c, r.WettedPerimeter, r.Subs[0].WettedPerimeter)
+			}
+			if tt.c == Lotter && relErr(r.Conveyance, split.Conveyance) > tol {
+				t.Errorf("walls n %g: Lotter K %.6g, split %.6g", nw, r.Conveyance, split.Conveyance)
+			}
+			if k, ok := last[tt.c]; ok && !(r.Conveyance < k) {
+				t.Errorf("walls n %g, %v: K %g, not below %g of smoother walls", nw, tt.c, r.Conveyance, k)
+			}
+			last[tt.c] = r.Conveyance
+		}
+	}
+}

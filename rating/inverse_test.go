@@ -518,6 +518,9 @@ func TestAnswerAboveEnds(t *testing.T) {
 		{"area", Query{Discharge: nan, Area: 100, Stage: nan}, 0, []string{"stage 20.0000 m is above an end of the section: vertical walls were added there (up to 17.0000 m high)"}},
 		{"stage", Query{Discharge: nan, Area: nan, Stage: 10}, 0.001, []string{"stage 10.0000 m is above an end of the section: vertical walls were added there (up to 7.0000 m high)"}},
 		{"critical", Query{Discharge: 200, Area: nan, Stage: nan}, 0.001, []string{"critical stage 5.4643 m is above an end of the section: vertical walls were added there (up to 2.4643 m high)", "normal stage"}},
+		// The rectangle's invert is at 0: no water below it, Q = 0.
+		{"stage below the invert", Query{Discharge: nan, Area: nan, Stage: -0.5}, 0.001, []string{"stage -0.5000 m is below the lowest point of the section (0.0000 m): no water stands there, so nothing flows"}},
+		{"stage at the invert", Query{Discharge: nan, Area: nan, Stage: 0}, 0.001, []string{"stage 0.0000 m is at the lowest point of the section (0.0000 m)"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			rep, err := Answer(rect, tc.q, Options{Slope: tc.slope})

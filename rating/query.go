@@ -2,6 +2,7 @@ package rating
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"wetline/subdivide"
@@ -58,7 +59,9 @@ type SolveReport struct {
 
 // Answer solves query q in geometry g: Solve for a discharge, StageForArea
 // for an area, CriticalDischarge (and the uniform-flow discharge at
-// opt.Slope when it is positive) for a stage. The report's Section,
+// opt.Slope when it is positive) for a stage, with a warning when the
+// stage is at or below the lowest point (both discharges are then 0). The
+// report's Section,
 // Provenance and Warnings from reading the section are left for the
 // caller. Errors are those of the solvers, or ErrQuery.
 func Answer(g subdivide.Geometry, q Query, opt Options) (SolveReport, error) {
@@ -103,6 +106,10 @@ func Answer(g subdivide.Geometry, q Query, opt Options) (SolveReport, error) {
 			return rep, err
 		}
 		rep.Warnings = append(rep.Warnings, aboveEndWarning("stage", q.Stage, w.ExtendedLeft, w.ExtendedRight, opt.Units)...)
+		if b := g.Bottom(); q.Stage <= b {
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("stage %.4f %s is %s the lowest point of the section (%.4f %s): no water stands there, so nothing flows; check the stage's datum",
+				q.Stage, opt.Units.Length(), map[bool]string{true: "at", false: "below"}[q.Stage == b], b, opt.Units.Length()))
+		}
 		if opt.Slope > 0 {
 			t, err := Compute(g, []float64{q.Stage}, opt)
 			if err != nil {

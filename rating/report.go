@@ -174,6 +174,51 @@ func (t Table) StageRange() (lo, hi float64, ok bool) {
 	return l.Stage, h.Stage, true
 }
 
+// Bottom mismatch tolerances of BottomMismatch, by unit system: 0.5 m and
+// 1.5 ft (about 0.46 m). Chosen, not published: more than the scour or fill
+// between two surveys of one section usually is (a few tenths of a metre),
+// less than a gauge datum offset mistaken or forgotten (whole metres or
+// feet, often tens).
+const (
+	BottomMismatchSI = 0.5 // m
+	BottomMismatchUS = 1.5 // ft
+)
+
+// BottomMismatch compares the bottom of a table read back with a depth
+// column, the elevation stage − depth (plus Datum for gauge heights) of
+// its first row with a positive depth, with lowest, the lowest ground
+// elevation of the section drawn with it (length unit). It returns a
+// warning naming both, of a datum mismatch, when they differ by more than
+// BottomMismatchSI or BottomMismatchUS; "" when they agree, when no row
+// has a positive depth (no depth column) or when lowest is not finite.
+// section names the survey in the warning.
+func (t Table) BottomMismatch(lowest float64, section string) string {
+	if !finiteAll(lowest) {
+		return ""
+	}
+	for _, r := range t.Rows {
+		if !(r.Depth > 0) {
+			continue
+		}
+		bottom, how := r.Stage-r.Depth, "stage − depth"
+		if t.GaugeHeights {
+			bottom += t.Datum
+			how += " + datum"
+		}
+		tol := BottomMismatchSI
+		if t.Units == US {
+			tol = BottomMismatchUS
+		}
+		if d := bottom - lowest; finiteAll(d) && math.Abs(d) > tol {
+			l := t.Units.Length()
+			return fmt.Sprintf("the table's bottom, elevation %.3f %s (%s), lies %.3f %s %s the lowest point of %s (%.3f %s), more than %g %s: check the datum of the table's stages (for gauge heights, the elevation of the gauge's zero) and that the section is the table's",
+				bottom, l, how, math.Abs(d), l, map[bool]string{true: "above", false: "below"}[d > 0], section, lowest, l, tol, l)
+		}
+		return ""
+	}
+	return ""
+}
+
 // Extremes returns the rows of the lowest and the highest stage (the
 // first of equal stages); ok is false for a table without rows.
 func (t Table) Extremes() (lo, hi Row, ok bool) {

@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"slices"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -142,6 +143,41 @@ func TestStageListOrdered(t *testing.T) {
 		}
 		if !slices.Equal(c.list, in) {
 			t.Errorf("stages %v: the spec's list was changed to %v", in, c.list)
+		}
+	}
+}
+
+// TestBottomMismatch: a table read back with depths has its bottom at
+// stage − depth (+ datum for gauge heights); more than 0.5 m (1.5 ft) from
+// the section's lowest point is warned of, naming both elevations. The
+// table's first wet row is stage 1.4 with depth 0.4: bottom 1.0 (by hand).
+func TestBottomMismatch(t *testing.T) {
+	nan := math.NaN()
+	rows := []rating.Row{{Stage: 1, Depth: 0}, {Stage: 1.4, Depth: 0.4}, {Stage: 2, Depth: 1}}
+	for _, tt := range []struct {
+		name   string
+		units  rating.Units
+		gauge  bool
+		datum  float64
+		rows   []rating.Row
+		lowest float64
+		want   string // "" for no warning
+	}{
+		{"agree", rating.SI, false, 0, rows, 1, ""},
+		{"scour within 0.5 m", rating.SI, false, 0, rows, 0.6, ""},
+		{"0.6 m apart", rating.SI, false, 0, rows, 0.4, "elevation 1.000 m (stage − depth), lies 0.600 m above the lowest point of xs.csv (0.400 m), more than 0.5 m"},
+		{"gauge zero forgotten", rating.SI, false, 0, rows, 101, "lies 100.000 m below the lowest point of xs.csv (101.000 m)"},
+		{"gauge zero given", rating.SI, true, 100, rows, 101, ""},
+		{"wrong gauge zero", rating.SI, true, 99, rows, 101, "elevation 100.000 m (stage − depth + datum), lies 1.000 m below"},
+		{"feet within 1.5", rating.US, false, 0, rows, 2.2, ""},
+		{"feet beyond 1.5", rating.US, false, 0, rows, 2.6, "lies 1.600 ft below the lowest point of xs.csv (2.600 ft), more than 1.5 ft"},
+		{"no depth column", rating.SI, false, 0, []rating.Row{{Stage: 1, Depth: nan}, {Stage: 2, Depth: nan}}, 50, ""},
+		{"no section bottom", rating.SI, false, 0, rows, nan, ""},
+	} {
+		tab := rating.Table{Units: tt.units, GaugeHeights: tt.gauge, Datum: tt.datum, Rows: tt.rows}
+		got := tab.BottomMismatch(tt.lowest, "xs.csv")
+		if (got == "") != (tt.want == "") || !strings.Contains(got, tt.want) {
+			t.Errorf("%s: %q, want %q", tt.name, got, tt.want)
 		}
 	}
 }

@@ -272,10 +272,14 @@ func (s Shape) Validate() error {
 	if _, ok := shapeKeys[s.Kind]; !ok {
 		return bad("kind", fmt.Errorf("%w %q", ErrShapeKind, s.Kind))
 	}
+	bottom := "bottom" // the key Bottom is given by
+	if s.Kind == Rectangle {
+		bottom = "width"
+	}
 	for _, f := range []struct {
 		key string
 		v   float64
-	}{{"invert", s.Invert}, {"height", s.Height}, {"bottom", s.Bottom}, {"left", s.Left}, {"right", s.Right},
+	}{{"invert", s.Invert}, {"height", s.Height}, {bottom, s.Bottom}, {"left", s.Left}, {"right", s.Right},
 		{"diameter", s.Diameter}, {"depth", s.Depth}, {"floodplain", s.Floodplain}, {"outer", s.Outer}, {"floodn", s.FloodN}} {
 		if !finite(f.v) {
 			return bad(f.key, ErrShapeValue)

@@ -71,6 +71,9 @@ func TestParseShapeErrors(t *testing.T) {
 		{"compound:bottom=2,side=1,floodplain=20", "depth", ErrShapeMissing},
 		{"compound:bottom=2,side=1,depth=2,floodplain=20,height=1", "height", nil},
 		{"rectangle:width=3,height=0", "height", ErrShapePositive},
+		{"rectangle:width=1e9", "width", ErrShapeSize},
+		{"trapezoid:bottom=1e9,side=1", "bottom", ErrShapeSize},
+		{"circle:diameter=2e5", "diameter", ErrShapeSize},
 	}
 	for _, tt := range tests {
 		_, err := ParseShape(tt.spec)

@@ -10,6 +10,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // ReadRatingCSV reads back a rating table written by WriteRatingCSV, from
@@ -38,6 +39,35 @@ func ParseRatingCSV(r io.Reader, name string, u UnitChoice) (rating.Table, error
 // increase from row to row.
 var ErrRatingStageOrder = errors.New("stages of a rating table must increase from row to row")
 
+// ErrRatingPeriods is the cause of a rating table holding several rating
+// periods (a valid_from column with more than one time) where one rating
+// is read.
+var ErrRatingPeriods = errors.New("one rating per file is read; give each period a file of its own")
+
+// ratingPeriods returns the number of rating periods in column cv (a
+// valid_from column) as RatingTablesFromTable groups them: a new period at
+// each time that is not blank and not the instant of the period above
+// (times that do not parse are told apart by their text).
+func ratingPeriods(t *Table, cv int) int {
+	n, last := 0, ""
+	var lastSec int64
+	lastOK := false
+	for _, rec := range t.Records {
+		s := t.Cell(rec, cv)
+		if s == "" {
+			continue
+		}
+		sec, err := cellTime(s, t.Sheet != "", t.Date1904, 0)
+		ok := err == nil
+		same := n > 0 && ((ok && lastOK && sec == lastSec) || s == last)
+		if !same {
+			n++
+		}
+		last, lastSec, lastOK = s, sec, ok
+	}
+	return n
+}
+
 // KindFitted is the Kind of a rating table read with a rating fit's
 // columns (basis or extrapolated).
 const KindFitted = "fitted rating"
@@ -54,8 +84,11 @@ const (
 
 // RatingFromTable turns a table with the columns of RatingColumns and
 // ExtraRatingColumns into a rating table. Stage and discharge are
-// required in every row and the stages must increase from row to row
-// (ErrRatingStageOrder at the stage cell of a row that does not); every
+// required in every row, the stages must increase from row to row
+// (ErrRatingStageOrder at the stage cell of a row that does not) and no
+// discharge may be negative (gauged.ErrRatingNegative at its cell, as a
+// rating table is read for the record and compare). A valid_from column
+// may hold one time, not several rating periods (ErrRatingPeriods); every
 // other column may be missing or blank (NaN). Per-subsection columns are
 // not read. Bottom is stage − depth where a depth is given, else the
 // lowest stage; Top is the highest stage. Slope is the friction slope
@@ -82,6 +115,12 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if out.Units, err = note.Resolve(choice.Units, choice.Given); err != nil {
 		return out, err
 	}
+	if cv := t.Column(ColRatingValidFrom); cv >= 0 {
+		if n := ratingPeriods(t, cv); n > 1 {
+			return out, &ParseError{File: t.File, Sheet: t.Sheet,
+				Err: fmt.Errorf("holds %d rating periods (a %s column): %w", n, ColRatingValidFrom, ErrRatingPeriods)}
+		}
+	}
 	cells := rowCells{t: t}
 	out.Bottom, out.Top = math.Inf(1), math.Inf(-1)
 	bottomFromDepth := false
@@ -103,6 +142,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 				cells.errs = append(cells.errs, t.At(rec, cs, fmt.Errorf("%w (%g after %g)", ErrRatingStageOrder, r.Stage, prev)))
 				continue
 			}
+		}
+		if r.Discharge < 0 {
+			cells.errs = append(cells.errs, t.At(rec, cq, gauged.ErrRatingNegative))
+			continue
 		}
 		if math.IsNaN(r.Stage) || math.IsNaN(r.Discharge) {
 			continue

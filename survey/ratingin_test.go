@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 func TestRatingFromTableErrors(t *testing.T) {
@@ -22,10 +23,28 @@ func TestRatingFromTableErrors(t *testing.T) {
 		{"stage decreasing", "stage,discharge\n1,0\n2,1\n1.5,2\n", "t.csv:4:1: stage", ErrRatingStageOrder},
 		{"stage repeated", "stage,discharge\n1,0\n1,0\n2,1\n", "t.csv:3:1: stage", ErrRatingStageOrder},
 		{"stage decreasing in a later column", "discharge,stage\n0,2\n1,1\n", "t.csv:3:2: stage", ErrRatingStageOrder},
+		{"negative discharge", "stage,discharge\n1,0\n2,-5\n3,9\n", `t.csv:3:2: discharge "-5"`, gauged.ErrRatingNegative},
+		{"two periods", "valid_from,stage,discharge\n2024-01-01,1,0\n,2,5\n2025-01-01,1,0\n,2,6\n", "t.csv: holds 2 rating periods (a valid_from column)", ErrRatingPeriods},
+		{"three periods, times repeated", "valid_from,stage,discharge\n2023-01-01,1,0\n2024-01-01,1,0\n2024-01-01,2,5\n2025-01-01,1,0\n", "holds 3 rating periods", ErrRatingPeriods},
+		{"negative discharge in a later column", "discharge,stage\n-0.001,1\n2,2\n", `t.csv:2:1: discharge "-0.001"`, gauged.ErrRatingNegative},
 	} {
 		_, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
 		if err == nil || !strings.Contains(err.Error(), tc.want) || !errors.Is(err, tc.is) {
 			t.Errorf("%s: error %v, want %q (%v)", tc.name, err, tc.want, tc.is)
+		}
+	}
+}
+
+// One time in a valid_from column, written again or in another form of
+// the same instant, is one rating and is read.
+func TestRatingFromTableOnePeriod(t *testing.T) {
+	for _, csv := range []string{
+		"valid_from,stage,discharge\n2024-01-01,1,0\n,2,5\n",
+		"valid_from,stage,discharge\n2024-01-01,1,0\n2024-01-01T00:00:00Z,2,5\n2024-01-01,3,9\n",
+	} {
+		tab, err := ParseRatingCSV(strings.NewReader(csv), "t.csv", UnitChoice{})
+		if err != nil || len(tab.Rows) < 2 {
+			t.Errorf("%q: %d rows, %v", csv, len(tab.Rows), err)
 		}
 	}
 }
@@ -48,6 +67,9 @@ func FuzzParseRatingCSV(f *testing.F) {
 		for i, r := range tab.Rows {
 			if math.IsNaN(r.Stage) || math.IsInf(r.Stage, 0) || math.IsNaN(r.Discharge) {
 				t.Fatalf("row with an undefined stage or discharge: %+v", r)
+			}
+			if r.Discharge < 0 {
+				t.Fatalf("negative discharge accepted: %+v", r)
 			}
 			if i > 0 && !(r.Stage > tab.Rows[i-1].Stage) {
 				t.Fatalf("stage %g after %g accepted", r.Stage, tab.Rows[i-1].Stage)

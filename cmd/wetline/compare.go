@@ -45,7 +45,7 @@ func (f *compareFlags) register(fs *flagSet) {
 	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows)")
 	fs.Var(&f.datum, "datum", "ratings: subtract from the stages of both, or A,B: read tables of elevations at gauge heights")
 	fs.Float64Var(&f.step, "step", 0, "stage step of the comparison (default: ratings, every row stage of either table; surveys, a round step giving about 50 stages)")
-	fs.Var(&f.stages, "stages", "surveys: compare at these stages (comma-separated) instead of a range")
+	fs.Var(&f.stages, "stages", "surveys: compare at these stages (comma-separated, in any order; the rows list them increasing, each once) instead of a range")
 	fs.Var(&f.n, "n", "surveys: Manning's n for both sections, or LEFT,CHANNEL,RIGHT (overrides the surveys' n column)")
 	fs.BoolVar(&f.allPools, "all-pools", false, "surveys: count water standing in pockets behind higher ground as flowing")
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
@@ -235,6 +235,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(ps[0].Site.Merge(ps[1].Site), f.site)}
 	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
 	c.Warnings = append(warnings, c.Warnings...)
+	c.SetDatums(ps[0].Site.Datum, ps[1].Site.Datum)
 	if f.plots != "" || format == "xlsx" {
 		figs, w, err := plotting.DrawSectionComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
 		if err != nil {

@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -82,6 +83,49 @@ func TestCompareSectionsClosedForm(t *testing.T) {
 	}
 	if p := 100 * (want["conveyance"][1] - want["conveyance"][0]) / want["conveyance"][0]; math.Abs(r.ConveyancePercentDiffers-p) > tol*p {
 		t.Errorf("conveyance percent %v, want %v", r.ConveyancePercentDiffers, p)
+	}
+}
+
+// TestCompareSectionsDatums: surveys whose datum keys differ are compared
+// with the text saying so and a warning naming both; the same datum keeps
+// "both in one datum". The stages also come out in increasing order, each
+// once, whatever the order given.
+func TestCompareSectionsDatums(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	body, err := os.ReadFile(recSectionA)
+	if err != nil {
+		t.Fatal(err)
+	}
+	put := func(name, datum string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, append([]byte("# datum: "+datum+"\n"), body...), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	a, b, c := put("a.csv", "local datum A"), put("b.csv", "AHD"), put("c.csv", "local datum A")
+	for _, tt := range []struct {
+		name, other string
+		head, warn  string
+	}{
+		{"datums differ", b, "(si units; datums differ: A local datum A, B AHD)", `a.csv: "local datum A"; `},
+		{"one datum", c, "(si units; both in one datum)", ""},
+	} {
+		out, errs, code := runCLI(t, "compare", a, tt.other, "--stages", "12,11,11", "--format", "text")
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", tt.name, code, errs)
+		}
+		if first, _, _ := strings.Cut(out, "\n"); !strings.HasSuffix(first, tt.head) {
+			t.Errorf("%s: first line %q, want it to end %q", tt.name, first, tt.head)
+		}
+		if got := strings.Contains(out, "warning: the surveys name different datums ("); got != (tt.warn != "") || !strings.Contains(out, tt.warn) {
+			t.Errorf("%s: warning %q wanted %v in\n%s", tt.name, tt.warn, tt.warn != "", out)
+		}
+		i11, i12 := strings.Index(out, "\n     11.000 "), strings.Index(out, "\n     12.000 ")
+		if i11 < 0 || i12 < i11 || strings.Count(out, "\n     11.000 ") != 1 {
+			t.Errorf("%s: rows not 11 then 12, once each:\n%s", tt.name, out)
+		}
 	}
 }
 

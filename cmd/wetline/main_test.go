@@ -149,6 +149,12 @@ func TestBadInputs(t *testing.T) {
 		{"three n without banks", []string{"rate", write("e.csv", "station,elevation,n\n0,1,0.03\n2,0,\n3,1,\n"), "--slope", "0.001", "--n", "0.03,0.03,0.03"}, 1, "needs bank stations"},
 		{"unknown command", []string{"rattle"}, 2, "unknown command"},
 		{"sheet on csv", []string{"rate", demoSurveyPath, "--slope", "0.001", "--sheet", "XS-2"}, 1, "sheet"},
+		// Stages are written to 4 decimals (results.LengthDecimals): finer
+		// ones would be written as repeats that plot and fit refuse.
+		{"step finer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101", "--to", "101.001", "--step", "0.00001"}, 2, "--step 1e-05 is finer than the table's stages are written (4 decimals)"},
+		{"stages closer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101,101.00001"}, 2, "--stages: stages closer than the table's precision: 101 and 101.00001 would both be written 101"},
+		{"default step finer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101", "--to", "101.001"}, 2, "--from/--to: the default step is too fine"},
+		{"step written alike from a half", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101.00005", "--to", "101.001", "--step", "0.0001"}, 2, "--step: stages closer"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -12,12 +12,13 @@ import (
 	"wetline/survey"
 )
 
-const plotUsage = "plot TABLE.csv [--section SURVEY [--n N] [--banks A,B]] [--units si|us] [--zero-flow E] [--datum D] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
+const plotUsage = "plot TABLE [--section SURVEY [--n N] [--banks A,B]] [--sheet NAME] [--table-sheet NAME] [--units si|us] [--zero-flow E] [--datum D] [--site NAME] [--width PX --height PX --dpi N] [-o DIR]"
 
 // plotFlags are the flags of plot.
 type plotFlags struct {
 	sectionFlags
 	section            string
+	tableSheet         string
 	zeroFlow, datum    float64
 	width, height, dpi int
 	output             string
@@ -26,6 +27,8 @@ type plotFlags struct {
 func (f *plotFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.section, "section", "", "surveyed cross-section of the table, for the section figure")
+	fs.Lookup("sheet").Usage = "workbook sheet of the survey when --section is a workbook, else of a workbook TABLE (default: the first sheet)"
+	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first sheet)")
 	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
 	fs.Float64Var(&f.datum, "datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
 	fs.IntVar(&f.width, "width", plotting.DefaultWidth, "figure width in pixels")
@@ -68,6 +71,10 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		return err
 	}
 	path := fs.Arg(0)
+	tableSheet, err := f.sheets(fs, path)
+	if err != nil {
+		return err
+	}
 	// The section, when given, is read first: with --units, else its own
 	// headers deciding, its units are the table's (whose headers then must
 	// agree); else the table's headers decide.
@@ -81,7 +88,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 			u, by = survey.UnitChoice{Units: p.Units, Given: true}, "the headers of "+p.Source()
 		}
 	}
-	t, err := survey.ReadRatingCSV(path, "", u)
+	t, err := survey.ReadRatingCSV(path, tableSheet, u)
 	if errors.Is(err, survey.ErrUnitsDisagree) {
 		return fmt.Errorf("%w (%s units set by %s)", err, u.Units, by)
 	}
@@ -98,6 +105,9 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if p != nil {
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
+		if w := t.BottomMismatch(p.Geometry.Bottom(), p.Source()); w != "" {
+			warnings = append(warnings, w)
+		}
 		in.Ground, in.Geometry = p.Ground, f.geometry()
 		in.Site = siteWith(p.Site, f.site).Name
 	}
@@ -111,4 +121,26 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: append(warnings, w...),
 		write: func(io.Writer) error { return nil }})
+}
+
+// sheets sorts out which file --sheet names: the survey's when --section
+// is a workbook, else the table's (the survey, if any, then has none);
+// --table-sheet always names the table's. It returns the table's sheet
+// ("" for the first) and clears --sheet for a survey that is not a
+// workbook. A sheet named for a table that is not a workbook, or both
+// flags naming the table's, is a usage error; an unknown sheet is refused
+// by the reader.
+func (f *plotFlags) sheets(fs *flagSet, table string) (string, error) {
+	sectionBook := f.section != "" && survey.IsWorkbook(f.section)
+	sheet, flag := f.tableSheet, "--table-sheet"
+	if !sectionBook && fs.Changed("sheet") {
+		if fs.Changed("table-sheet") {
+			return "", usagef("plot: --sheet and --table-sheet both name the table's sheet (there is no workbook survey): give one")
+		}
+		sheet, flag, f.sheet = f.sheet, "--sheet", ""
+	}
+	if sheet != "" && !survey.IsWorkbook(table) {
+		return "", usagef("plot: %s %s: %s is not a workbook (.xlsx), so it has no sheets", flag, sheet, table)
+	}
+	return sheet, nil
 }

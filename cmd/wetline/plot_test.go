@@ -108,6 +108,14 @@ func TestPlotErrors(t *testing.T) {
 	if err := os.WriteFile(same, []byte("discharge,stage\n0,1\n5,2\n5,2\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	periods := filepath.Join(dir, "periods.csv")
+	if err := os.WriteFile(periods, []byte("valid_from,stage,discharge\n2024-01-01,1,0\n,2,5\n,3,9\n2025-01-01,1,0\n,2,6\n,3,10\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	neg := filepath.Join(dir, "neg.csv")
+	if err := os.WriteFile(neg, []byte("stage,discharge\n1,0\n2,-5\n3,9\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		name   string
 		args   []string
@@ -120,6 +128,8 @@ func TestPlotErrors(t *testing.T) {
 		{"missing file", []string{"plot", filepath.Join(dir, "none.csv")}, false, "none.csv"},
 		{"stage decreasing", []string{"plot", down}, false, `down.csv:4:1: stage "1.5"`},
 		{"stage repeated", []string{"plot", same}, false, `same.csv:4:2: stage "2"`},
+		{"several periods", []string{"plot", periods}, false, `periods.csv: holds 2 rating periods (a valid_from column): one rating per file is read`},
+		{"negative discharge", []string{"plot", neg}, false, `neg.csv:3:2: discharge "-5": discharge must not be negative`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))
@@ -173,6 +183,82 @@ func TestPlotSectionUnits(t *testing.T) {
 			_, errs, code := runCLI(t, append(append([]string{"plot"}, tc.args...), "-o", out)...)
 			if code != tc.code || !strings.Contains(errs, tc.words) {
 				t.Errorf("exit %d, want %d; stderr %q lacks %q", code, tc.code, errs, tc.words)
+			}
+		})
+	}
+}
+
+// plot --section warns when the table's bottom (stage − depth, plus
+// --datum) is more than 0.5 m from the section's lowest point: a table of
+// gauge heights on a gauge whose zero is at 10 m, drawn over the test
+// trapezoid whose bottom is at 10 m, agrees only with --datum 10.
+func TestPlotSectionBottomMismatch(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	table := filepath.Join(dir, "gauge.csv")
+	if err := os.WriteFile(table, []byte("stage,depth,discharge\n0,0,0\n1,1,5\n2,2,20\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tt := range []struct {
+		name string
+		args []string
+		want string // "" for no warning
+	}{
+		{"datum given", []string{"--datum", "10"}, ""},
+		{"datum forgotten", nil, "the table's bottom, elevation 0.000 m (stage − depth), lies 10.000 m below the lowest point of testdata/record/xs-a.csv (10.000 m)"},
+		{"datum wrong", []string{"--datum", "9"}, "elevation 9.000 m (stage − depth + datum), lies 1.000 m below"},
+		{"within 0.5 m", []string{"--datum", "10.4"}, ""},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			args := append([]string{"plot", table, "--section", recSectionA, "-o", filepath.Join(dir, strings.ReplaceAll(tt.name, " ", "-"))}, tt.args...)
+			_, errs, code := runCLI(t, args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			got := strings.Contains(errs, "the table's bottom")
+			if got != (tt.want != "") || !strings.Contains(errs, tt.want) {
+				t.Errorf("stderr %q, want %q", errs, tt.want)
+			}
+		})
+	}
+}
+
+// plot reads a workbook table from the sheet --sheet names (when the
+// survey is not a workbook) or --table-sheet names, refuses an unknown
+// sheet and a sheet named for a CSV table; the demo's results workbook
+// holds the rating on its "rating" sheet and the survey on "survey".
+func TestPlotSheets(t *testing.T) {
+	t.Parallel()
+	demo, _ := demoOutput(t)
+	book := filepath.Join(demo, "tallow-xs1-results.xlsx")
+	csv := filepath.Join(demo, "tallow-xs1-rating.csv")
+	survey := filepath.Join(demo, "tallow-xs1.csv")
+	for _, tt := range []struct {
+		name   string
+		args   []string
+		code   int
+		errHas string // "" for success
+	}{
+		{"first sheet is no table", []string{book}, 1, `['summary'] row 1: stage: missing column`},
+		{"--sheet names the table's", []string{book, "--sheet", "rating"}, 0, ""},
+		{"--sheet with a survey CSV", []string{book, "--section", survey, "--sheet", "rating"}, 0, ""},
+		{"--table-sheet", []string{book, "--table-sheet", "rating"}, 0, ""},
+		{"both workbooks", []string{book, "--section", book, "--sheet", "survey", "--table-sheet", "rating"}, 0, ""},
+		{"unknown sheet", []string{book, "--sheet", "ratings"}, 1, `['ratings']: no such sheet (sheets: summary, rating,`},
+		{"unknown table sheet", []string{book, "--section", book, "--sheet", "survey", "--table-sheet", "nosuch"}, 1, `['nosuch']: no such sheet`},
+		{"sheet of a CSV table", []string{csv, "--sheet", "rating"}, 2, "--sheet rating: " + csv + " is not a workbook"},
+		{"table sheet of a CSV table", []string{csv, "--section", survey, "--table-sheet", "rating"}, 2, "--table-sheet rating: " + csv + " is not a workbook"},
+		{"both flags for the table", []string{book, "--sheet", "rating", "--table-sheet", "rating"}, 2, "both name the table's sheet"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			out := filepath.Join(t.TempDir(), "figures")
+			_, errs, code := runCLI(t, append(append([]string{"plot"}, tt.args...), "-o", out)...)
+			if code != tt.code || !strings.Contains(errs, tt.errHas) {
+				t.Fatalf("exit %d, want %d; stderr %q, want %q", code, tt.code, errs, tt.errHas)
+			}
+			figs, _ := filepath.Glob(filepath.Join(out, "*-rating.png"))
+			if (len(figs) == 1) != (tt.code == 0) {
+				t.Errorf("rating figures %v", figs)
 			}
 		})
 	}

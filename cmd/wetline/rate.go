@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -35,7 +36,7 @@ func (f *rateFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
-	fs.Float64Var(&f.step, "step", math.NaN(), "stage step (default: a round step giving about 50 rows)")
+	fs.Float64Var(&f.step, "step", math.NaN(), "stage step, at least 0.0001 (stages are written to 4 decimals; default: a round step giving about 50 rows)")
 	fs.Var(&f.stages, "stages", "explicit stages, comma-separated, in any order (the table lists them increasing, each once; instead of --from/--to/--step)")
 	fs.StringVar(&f.format, "format", "", "output format: csv, json, text (aligned columns to read on screen) or xlsx (a results workbook with figures); default: from the -o extension, else csv")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
@@ -59,7 +60,32 @@ func (f *rateFlags) check(fs *flagSet) error {
 	if len(f.stages) > 0 && (fs.Changed("from") || fs.Changed("to") || fs.Changed("step")) {
 		return usagef("rate: give --stages or --from/--to/--step, not both")
 	}
+	if fs.Changed("step") && f.step < results.LengthResolution {
+		return usagef("rate: --step %g is finer than the table's stages are written (%d decimals): give a step of at least %g",
+			f.step, results.LengthDecimals, results.LengthResolution)
+	}
+	if len(f.stages) > 0 {
+		if err := results.CheckStagesApart(slices.Compact(slices.Sorted(slices.Values(f.stages)))); err != nil {
+			return usageError{err: fmt.Errorf("rate: --stages: %w", err)}
+		}
+	}
 	return checkSlope("rate", f.slope)
+}
+
+// stagesApart refuses stages, laid out for a table, that the table would
+// write alike (results.CheckStagesApart), naming the flag that asked for
+// them: a default step over a narrow --from/--to range can be as fine.
+func stagesApart(fs *flagSet, stages []float64) error {
+	err := results.CheckStagesApart(stages)
+	switch {
+	case err == nil:
+		return nil
+	case fs.Changed("stages"):
+		return usageError{err: fmt.Errorf("rate: --stages: %w", err)}
+	case fs.Changed("step"):
+		return usageError{err: fmt.Errorf("rate: --step: %w", err)}
+	}
+	return usageError{err: fmt.Errorf("rate: --from/--to: the default step is too fine for this range: %w; give --step %g or more", err, results.LengthResolution)}
 }
 
 // stageSpec returns the stages asked for.
@@ -140,6 +166,9 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	stages, err := f.stageSpec(fs).Stages(p.Geometry)
 	if err != nil {
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
+	}
+	if err := stagesApart(fs, stages); err != nil {
+		return rating.RatingReport{}, err
 	}
 	if lookup { // the workbook: check its sheets hold the table before computing
 		if err := results.CheckRatingWorkbook(len(stages), len(p.Geometry.Subsections())); err != nil {

@@ -297,12 +297,13 @@ func TestDemoWritesWorkbook(t *testing.T) {
 }
 
 // A workbook that could not hold the table is refused before any work:
-// 200 001 stages of the demo section's six subsections need 1.2 million
-// rows of the subsections sheet, more than a sheet holds (1 048 576).
+// 200 001 stages (100 to 120 at 0.0001) of the demo section's six
+// subsections need 1.2 million rows of the subsections sheet, more than a
+// sheet holds (1 048 576).
 func TestRateWorkbookTooLongRefusedFirst(t *testing.T) {
 	t.Parallel()
 	out := filepath.Join(t.TempDir(), "r.xlsx")
-	_, errs, code := runCLI(t, "rate", wbTallowCSV, "--slope", "0.001", "--from", "100", "--to", "102", "--step", "0.00001", "-o", out)
+	_, errs, code := runCLI(t, "rate", wbTallowCSV, "--slope", "0.001", "--from", "100", "--to", "120", "--step", "0.0001", "-o", out)
 	if code != 2 || !strings.Contains(errs, "too many rows for a workbook sheet") {
 		t.Errorf("exit %d: %s", code, errs)
 	}

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"io"
+	"strings"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -292,7 +293,11 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 	bw := bufio.NewWriter(w)
 	u := c.Units
 	L, A := u.Length(), u.Area()
-	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; both in one datum)\n", c.A, c.B, u)
+	datum := "both in one datum"
+	if c.DatumsDiffer() {
+		datum = fmt.Sprintf("datums differ: A %s, B %s", strings.TrimSpace(c.DatumA), strings.TrimSpace(c.DatumB))
+	}
+	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; %s)\n", c.A, c.B, u, datum)
 	bw.WriteString(siteLine(c.Provenance))
 	fmt.Fprintf(bw, "Differences are B − A: a larger area or conveyance in B is scour (or a lower control), a smaller one fill.\n")
 	fmt.Fprintf(bw, "\n  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "stage", "area A", "area B", "Δ area", "Δ perim.", "Δ width", "conv. A", "conv. B", "Δ conv. %")

@@ -3,6 +3,7 @@ package results
 import (
 	"bufio"
 	"encoding/json"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -28,6 +29,28 @@ func FormatFloat(v float64) string {
 // LengthDecimals is the number of decimals written for stages, depths and
 // other lengths: 0.1 mm or 0.0001 ft, finer than any survey.
 const LengthDecimals = 4
+
+// LengthResolution is 10^−LengthDecimals, the step of the lengths
+// written: a step of stages at least this large writes each apart.
+const LengthResolution = 1e-4
+
+// ErrStagesAlike is the cause of two stages of a table that would be
+// written alike (closer than LengthResolution).
+var ErrStagesAlike = errors.New("stages closer than the table's precision")
+
+// CheckStagesApart returns nil when FormatLength writes each of stages, in
+// increasing order, differently from the one before (a table written so is
+// read back with its stages increasing from row to row); else an error
+// wrapping ErrStagesAlike naming the first two written alike.
+func CheckStagesApart(stages []float64) error {
+	for i := 1; i < len(stages); i++ {
+		if a, b := FormatLength(stages[i-1]), FormatLength(stages[i]); a == b {
+			return fmt.Errorf("%w: %g and %g would both be written %s (stages are written to %d decimals)",
+				ErrStagesAlike, stages[i-1], stages[i], a, LengthDecimals)
+		}
+	}
+	return nil
+}
 
 // FormatLength writes a length (stage, depth, width) with LengthDecimals
 // decimals, trailing zeros dropped, and "" when undefined.
