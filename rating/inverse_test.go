@@ -723,3 +723,25 @@ func TestCriticalStageExtremum(t *testing.T) {
 		})
 	}
 }
+
+// At the crown a conduit flows full: no discharge is critical (NaN, with a
+// warning), and uniform flow is Manning's full-flow discharge
+// Q = (1/n)·(πD²/4)·(D/4)^(2/3)·√S (closed form, Chow 1959, section 6-2).
+func TestAnswerAtCrown(t *testing.T) {
+	const d, n, s = 1.5, 0.013, 0.002
+	pipe := mustShape(t, "circle:diameter=1.5", n)
+	rep, err := Answer(pipe, Query{Discharge: math.NaN(), Area: math.NaN(), Stage: d}, Options{Slope: s})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rep.Stage == nil || !math.IsNaN(rep.Stage.CriticalDischarge) {
+		t.Fatalf("answer at the crown %+v, want no critical discharge", rep.Stage)
+	}
+	full := 1 / n * math.Pi * d * d / 4 * math.Pow(d/4, 2.0/3) * math.Sqrt(s)
+	if got := rep.Stage.UniformDischarge; math.Abs(got-full) > 1e-9*full {
+		t.Errorf("uniform discharge at the crown %.9g, want the full-flow %.9g", got, full)
+	}
+	if text := strings.Join(rep.Warnings, "\n"); !strings.Contains(text, "flows full, with no free surface") {
+		t.Errorf("warnings %q do not say the conduit flows full", rep.Warnings)
+	}
+}

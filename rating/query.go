@@ -97,7 +97,13 @@ func Answer(g subdivide.Geometry, q Query, opt Options) (SolveReport, error) {
 		rep.Warnings = append(rep.Warnings, aboveEndWarning("stage", r.Stage, w.ExtendedLeft, w.ExtendedRight, opt.Units)...)
 	default:
 		qc, err := CriticalDischarge(g, q.Stage, opt)
-		if err != nil {
+		if errors.Is(err, ErrNoFreeSurface) {
+			// At the crown a conduit flows full: no free surface, so no
+			// critical flow, while uniform flow is the full-flow discharge.
+			qc = math.NaN()
+			rep.Warnings = append(rep.Warnings, fmt.Sprintf("stage %.4f %s is at the crown: the conduit flows full, with no free surface, so no discharge is critical there; a uniform discharge at a slope is the full-flow discharge",
+				q.Stage, opt.Units.Length()))
+		} else if err != nil {
 			return rep, err
 		}
 		a := &StageAnswer{Stage: q.Stage, CriticalDischarge: qc, UniformDischarge: math.NaN()}

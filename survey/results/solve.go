@@ -219,7 +219,11 @@ func WriteSolveText(w io.Writer, rep rating.SolveReport) error {
 	case rep.Stage != nil:
 		a := rep.Stage
 		fmt.Fprintf(bw, "section %s (%s units)\n", rep.Section, u)
-		fmt.Fprintf(bw, "at stage %g %s the critical discharge is %.4g %s\n", a.Stage, u.Length(), a.CriticalDischarge, u.Discharge())
+		if math.IsNaN(a.CriticalDischarge) {
+			fmt.Fprintf(bw, "at stage %g %s no discharge is critical (no free surface)\n", a.Stage, u.Length())
+		} else {
+			fmt.Fprintf(bw, "at stage %g %s the critical discharge is %.4g %s\n", a.Stage, u.Length(), a.CriticalDischarge, u.Discharge())
+		}
 		if rep.Slope > 0 {
 			fmt.Fprintf(bw, "uniform flow at slope %g carries %.4g %s\n", rep.Slope, a.UniformDischarge, u.Discharge())
 		}
