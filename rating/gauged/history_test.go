@@ -245,9 +245,10 @@ func TestCheckStatesHistory(t *testing.T) {
 // Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2, extrapolation allowed:
 // above 0.7 Q = 2·((h − 0.2)/0.5)², carried on above 1.2, so at 1.4 m
 // Q = 2·(1.2/0.5)² = 11.52 (by hand); at 0.1 m (below e and below the
-// first row) Q = 0. The gauging at 0.1 m of 0.2 m³/s: the rating's stage
-// of 0.2 on its linear first interval Q = 4·(h − 0.2) is 0.25, a shift of
-// +0.15. The gauging at 0.9 m is in the table (rated 3.92, unmarked).
+// first row) Q = 0. The gauging at 0.1 m of 0.2 m³/s: the first interval
+// carries the law above down to e, so the rating's stage of 0.2 is
+// 0.2 + 0.5·√0.1 = 0.358113883 (by hand), a shift of +0.258113883. The
+// gauging at 0.9 m is in the table (rated 3.92, unmarked).
 func TestCheckGaugingsMarksLookups(t *testing.T) {
 	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true}
 	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
@@ -267,7 +268,7 @@ func TestCheckGaugingsMarksLookups(t *testing.T) {
 		warnContains string
 	}{
 		{11.52, Extrapolated, math.NaN(), "g:2: gauge height 1.4 is beyond the rows of the rating \"r\": rated by extrapolation"},
-		{0, ZeroFlow, 0.15, "g:3: gauge height 0.1 is at or below the zero-flow stage 0.2 of the rating \"r\": rated 0"},
+		{0, ZeroFlow, 0.5*math.Sqrt(0.1) + 0.1, "g:3: gauge height 0.1 is at or below the zero-flow stage 0.2 of the rating \"r\": rated 0"},
 		{3.92, InTable, math.NaN(), ""},
 	}
 	for i, w := range want {
