@@ -160,9 +160,10 @@ func TestShiftsRefusals(t *testing.T) {
 }
 
 // TestShiftsVisitGap: gaugings no more than --visit-gap apart make one
-// visit; 0 makes every gauging its own. The test gaugings are at 09:00
-// and 12:00 on one day and 11:00 the next (3 h and 23 h apart), so the
-// visit counts follow by hand.
+// visit; 0 makes every gauging its own; a rating break splits a visit. The
+// test gaugings are at 09:00 and 12:00 on one day and 11:00 the next (3 h
+// and 23 h apart, the second rating in force from midnight between them),
+// so the visit counts follow by hand.
 func TestShiftsVisitGap(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
@@ -173,7 +174,7 @@ func TestShiftsVisitGap(t *testing.T) {
 		{[]string{"--visit-gap", "0"}, 3},
 		{[]string{"--visit-gap", "2h"}, 3},
 		{[]string{"--visit-gap", "3h"}, 2},
-		{[]string{"--visit-gap", "24h"}, 1},
+		{[]string{"--visit-gap", "24h"}, 2}, // split at the break at midnight
 	} {
 		out, errs, code := runCLI(t, shiftsArgs(append(tc.gap, "--format", "json")...)...)
 		if code != 0 {

@@ -50,15 +50,16 @@ type GaugingShift struct {
 	Lookup, ShiftedLookup Lookup
 }
 
-// Visit is a field visit: gaugings close together in time, and the shift
-// diagram they propose.
+// Visit is a field visit: gaugings close together in time under one rating
+// period, and the shift diagram they propose. A visit spanning a rating
+// break is split there, each part a Visit of its own.
 type Visit struct {
 	// Time is the time of the visit's first gauging.
 	Time time.Time
 	// Gaugings are indices into ShiftCheck.Gaugings, in time order.
 	Gaugings []int
-	// Period is the 0-based index of the rating period in force at Time
-	// (that of the first gauging), -1 when none is.
+	// Period is the 0-based index of the rating period in force at the
+	// visit's gaugings, -1 when none is.
 	Period int
 	// Proposal is a shift diagram through the visit's measured shifts (one
 	// point per gauge height, shifts measured at one gauge height averaged),
@@ -203,7 +204,8 @@ func departure(g Gauging, rated float64) (float64, bool) {
 	return d, g.Quality.Outside(d)
 }
 
-// visits groups the gaugings into visits and proposes their diagrams.
+// visits groups the gaugings into visits (gaps of at most gap, one rating
+// period each) and proposes their diagrams.
 func (c *ShiftCheck) visits(gap time.Duration) {
 	idx := make([]int, len(c.Gaugings))
 	for i := range idx {
@@ -212,7 +214,9 @@ func (c *ShiftCheck) visits(gap time.Duration) {
 	sort.SliceStable(idx, func(a, b int) bool { return c.Gaugings[idx[a]].Time.Before(c.Gaugings[idx[b]].Time) })
 	for k, i := range idx {
 		g := c.Gaugings[i]
-		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap {
+		// A rating break ends a visit: shifts measured on two ratings make
+		// no one diagram.
+		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap || g.Period != c.Gaugings[idx[k-1]].Period {
 			c.Visits = append(c.Visits, Visit{Time: g.Time, Period: g.Period})
 		}
 		v := &c.Visits[len(c.Visits)-1]

@@ -191,6 +191,61 @@ func TestCheckGaugings(t *testing.T) {
 	}
 }
 
+// TestCheckGaugingsVisitAcrossBreak: gaugings within the visit gap but
+// under two rating periods make two visits, each with its own period,
+// diagram and source; gaugings of one period within the gap stay one.
+//
+// Ratings Q = 10h until 11:00 and Q = 20h from then (linear, through 0):
+// at 10:00, h = 1.0, Q = 12 gives the stage 1.2 on the first, a shift of
+// +0.2; at 12:00, h = 1.5, Q = 32 gives 1.6 on the second, +0.1 (by hand).
+func TestCheckGaugingsVisitAcrossBreak(t *testing.T) {
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	type part struct {
+		period int
+		time   time.Time
+		source string
+		shift  float64
+	}
+	for _, tc := range []struct {
+		name string
+		brk  time.Time
+		want []part
+	}{
+		{"break between the gaugings", at.Add(time.Hour), []part{{0, at, "g:2", 0.2}, {1, at.Add(2 * time.Hour), "g:3", 0.1}}},
+		{"break after both", at.Add(3 * time.Hour), []part{{0, at, "g:2", math.NaN()}}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			h := History{Periods: []Period{{Rating: linearRating("ten", 10)}, {From: tc.brk, Rating: linearRating("twenty", 20)}}}
+			gs := []Gauging{
+				{Time: at, Stage: 1.0, Discharge: 12, Quality: rating.Good, Source: "g:2"},
+				{Time: at.Add(2 * time.Hour), Stage: 1.5, Discharge: 32, Quality: rating.Good, Source: "g:3"},
+			}
+			c, err := compileHistory(t, h).CheckGaugings(gs, CheckOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(c.Visits) != len(tc.want) {
+				t.Fatalf("visits %+v, want %d", c.Visits, len(tc.want))
+			}
+			for k, w := range tc.want {
+				v := c.Visits[k]
+				p := v.Proposal
+				if v.Period != w.period || !v.Time.Equal(w.time) || !p.Time.Equal(w.time) || p.Source != w.source {
+					t.Errorf("visit %d: period %d at %v, proposal %+v; want period %d at %v from %s", k, v.Period, v.Time, p, w.period, w.time, w.source)
+				}
+				for _, i := range v.Gaugings {
+					if c.Gaugings[i].Period != v.Period {
+						t.Errorf("visit %d holds gauging %d of period %d", k, i, c.Gaugings[i].Period)
+					}
+				}
+				if !math.IsNaN(w.shift) && (len(p.Points) != 1 || math.Abs(p.Points[0].Shift-w.shift) > ratingTol) {
+					t.Errorf("visit %d: diagram %+v, want one point of shift %g", k, p.Points, w.shift)
+				}
+			}
+		})
+	}
+}
+
 // A visit whose two gaugings make a diagram falling faster than the stage
 // rises proposes none, with a warning.
 func TestCheckGaugingsRefusedProposal(t *testing.T) {
