@@ -254,7 +254,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	f.Posterior = post
 	f.Controls = b.controlsFromPosterior(r, post)
 	f.Warnings = append(f.Warnings, post.warnings()...)
-	f.finishCommon(gs, reasons, b.exponentBounds())
+	f.finishCommon(gs, opt.Selection, reasons, b.exponentBounds())
 	f.Warnings = append(f.Warnings, b.thinControls(r)...)
 	return f, nil
 }
