@@ -189,3 +189,40 @@ func TestShiftsVisitGap(t *testing.T) {
 		}
 	}
 }
+
+// TestShiftsFlagsEveryProblem: each gauging the check cannot measure is
+// flagged and warned of. On testdata/record/rating-a.csv (first row 0.40 m,
+// 0.6 m3/s; last 1.60 m, 17.5 m3/s) with e = 0.2 until a period without a
+// rating from 1 June: zero discharge at 0.84 m, where the rating has flow,
+// has no shift; zero at 0.15 m (below e) agrees with the rating; 2.0 m is
+// above the last row and 30 m3/s beyond it; a gauging in June has no
+// rating.
+func TestShiftsFlagsEveryProblem(t *testing.T) {
+	t.Parallel()
+	gaugings := filepath.Join(t.TempDir(), "g.csv")
+	if err := os.WriteFile(gaugings, []byte("time,stage,discharge,quality\n"+
+		"2024-05-01T09:00,0.84,0,good\n2024-05-02T09:00,0.15,0,good\n2024-05-03T09:00,2.0,30,good\n2024-06-02T09:00,0.84,4.1,good\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runCLI(t, "shifts", gaugings, "--rating", recRatingA, "--rating", "none@2024-06-01", "--zero-flow", "0.2", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows := strings.Split(strings.TrimSpace(out), "\n")
+	for i, tc := range []struct {
+		flags, warning string
+	}{
+		{"no_shift", "g.csv:2: zero discharge measured at gauge height 0.84, where the rating \"rating-a.csv\" gives"},
+		{"below_zero_flow", "g.csv:3: gauge height 0.15 is at or below the zero-flow stage 0.2"},
+		{"outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
+		{"no_rating", "g.csv:5: no rating is in force"},
+	} {
+		f := strings.Split(rows[i+1], ",")
+		if got := f[len(f)-1]; got != tc.flags {
+			t.Errorf("row %q: flags %q, want %q", rows[i+1], got, tc.flags)
+		}
+		if !strings.Contains(errs, tc.warning) {
+			t.Errorf("no warning %q in %s", tc.warning, errs)
+		}
+	}
+}

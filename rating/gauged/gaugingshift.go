@@ -48,6 +48,12 @@ type GaugingShift struct {
 	// beyond the table's rows, ZeroFlow at or below the zero-flow stage;
 	// NoRating without a rating).
 	Lookup, ShiftedLookup Lookup
+	// NoShift reports a gauging under a rating whose shift could not be
+	// measured (Shift NaN): a discharge the rating carries at no stage
+	// (beyond its rows, or zero where the rating has flow). A zero
+	// discharge at a gauge height the rating also rates 0 needs no shift
+	// and is not marked.
+	NoShift bool
 }
 
 // Visit is a field visit: gaugings close together in time under one rating
@@ -174,6 +180,11 @@ func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
 			out.Residual = out.Shift - out.Applied
 		}
 	}
+	if g.Discharge == 0 && out.Rated > 0 {
+		*warn = append(*warn, fmt.Sprintf("%s: zero discharge measured at gauge height %g, where the rating %q gives %.4g: no shift can be measured (the rating has no stage of zero flow above it)",
+			g.label(), g.Stage, rt.Name(), out.Rated))
+	}
+	out.NoShift = math.IsNaN(out.Shift) && !(g.Discharge == 0 && out.Rated == 0)
 	if math.IsNaN(out.Rated) {
 		*warn = append(*warn, fmt.Sprintf("%s: gauge height %g is outside the rating %q", g.label(), g.Stage, rt.Name()))
 	}

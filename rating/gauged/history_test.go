@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 	"time"
 
@@ -241,6 +242,44 @@ func TestCheckGaugingsVisitAcrossBreak(t *testing.T) {
 				if !math.IsNaN(w.shift) && (len(p.Points) != 1 || math.Abs(p.Points[0].Shift-w.shift) > ratingTol) {
 					t.Errorf("visit %d: diagram %+v, want one point of shift %g", k, p.Points, w.shift)
 				}
+			}
+		})
+	}
+}
+
+// TestCheckGaugingsNoShift: a gauging under a rating whose shift cannot be
+// measured is marked NoShift; a zero discharge where the rating has flow
+// is warned of. Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2 (Q = 2 at
+// 0.7 m, 3.92 at 0.9 m by hand, see TestCheckGaugings).
+func TestCheckGaugingsNoShift(t *testing.T) {
+	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2}
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		name    string
+		g       Gauging
+		noShift bool
+		warning string
+	}{
+		{"zero where the rating has flow", Gauging{Time: at, Stage: 0.9, Discharge: 0, Source: "g:2"}, true,
+			`g:2: zero discharge measured at gauge height 0.9, where the rating "r" gives 3.92: no shift can be measured`},
+		{"zero below e", Gauging{Time: at, Stage: 0.1, Discharge: 0, Source: "g:3"}, false, ""},
+		{"beyond the table", Gauging{Time: at, Stage: 1.0, Discharge: 9, Source: "g:4"}, true, "g:4: no shift: "},
+		{"measured", Gauging{Time: at, Stage: 0.9, Discharge: 4.5, Source: "g:5"}, false, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := compileHistory(t, History{Periods: []Period{{Rating: rt}}}).CheckGaugings([]Gauging{tc.g}, CheckOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if g := c.Gaugings[0]; g.NoShift != tc.noShift || g.NoShift != math.IsNaN(g.Shift) && g.Discharge > 0 {
+				t.Errorf("NoShift %v (shift %v), want %v", g.NoShift, g.Shift, tc.noShift)
+			}
+			found := false
+			for _, w := range c.Warnings {
+				found = found || tc.warning != "" && strings.HasPrefix(w, tc.warning)
+			}
+			if tc.warning != "" && !found {
+				t.Errorf("no warning %q in %q", tc.warning, c.Warnings)
 			}
 		})
 	}
