@@ -168,3 +168,30 @@ func TestCompareRefusals(t *testing.T) {
 		})
 	}
 }
+
+// TestTooFineStep: a --step laying out more than rating.MaxStages stages
+// (a million) is a usage error naming --step with its unit, in every
+// command that takes one. 1e-9 m over any of these ranges (about 3 m of
+// rating table, 4.5 m of section) gives billions.
+func TestTooFineStep(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"rate", []string{"rate", fitDemoSurvey, "--slope", "0.001", "--step", "1e-9"}},
+		{"compare ratings", []string{"compare", recRatingA, recRatingB, "--step", "1e-9"}},
+		{"compare surveys", []string{"compare", fitDemoSurvey, fitDemoSurvey, "--step", "1e-9"}},
+		{"fit", []string{"fit", fitDemoGaugings, "--method", "lsq", "--step", "1e-9"}},
+		{"fit with a section", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq", "--step", "1e-9"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			_, errs, code := runCLI(t, tc.args...)
+			want := tc.args[0] + ": --step 1e-09 m: "
+			if code != 2 || !strings.Contains(errs, want) || !strings.Contains(errs, "is more than 1000000") {
+				t.Errorf("exit %d, stderr %q; want 2 and %q", code, errs, want)
+			}
+		})
+	}
+}

@@ -202,6 +202,9 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if sel := opt.Controls.Selection; errors.Is(err, gauged.ErrFewGaugings) && !(sel.From.IsZero() && sel.To.IsZero()) {
 		return nil, fmt.Errorf("fit: --period %s: %s: %w; widen the period or leave --period out", strings.TrimSpace(f.period), path, err)
 	}
+	if errors.Is(err, rating.ErrStepTooFine) {
+		return nil, tooFineStep("fit", f.step, d.Units, err)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
