@@ -81,7 +81,7 @@ var (
 	ErrRatingNegative    = errors.New("discharge must not be negative")
 	ErrRatingStages      = errors.New("stages of a rating table must increase from row to row")
 	ErrRatingNotRising   = errors.New("discharge must rise with stage once it is above zero")
-	ErrZeroFlowAbove     = errors.New("the gauge height of zero flow is above a row with flow")
+	ErrZeroFlowAbove     = errors.New("the gauge height of zero flow is at or above a row with flow")
 	ErrBeyondTable       = errors.New("outside the rating table")
 	ErrNoCommonRange     = errors.New("the two ratings share no range of stage")
 	ErrRatingNoDischarge = errors.New("no stage of the rating carries this discharge")
