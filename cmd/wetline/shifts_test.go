@@ -226,3 +226,26 @@ func TestShiftsFlagsEveryProblem(t *testing.T) {
 		}
 	}
 }
+
+// TestShiftsWarningsInOffset: with --utc-offset the warnings write times in
+// that offset, as the report does. Read at +10:00, the test diagram of
+// 2024-05-01T00:00 lies before the rating from 06:00 that day, the one of
+// 2024-05-02T06:00 and the gauging of 2024-05-02T11:00 in the period
+// without a rating from midnight.
+func TestShiftsWarningsInOffset(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "shifts", recGaugings, "--rating", recRatingA+"@2024-05-01T06:00", "--rating", "none@2024-05-02T00:00", "--zero-flow", "0.2",
+		"--shifts", recShifts, "--utc-offset", "+10:00", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"the shift diagram of 2024-05-01T00:00:00+10:00 (", "the shift diagram of 2024-05-02T06:00:00+10:00 (",
+		"no rating is in force at 2024-05-02T11:00:00+10:00"} {
+		if !strings.Contains(errs, want) {
+			t.Errorf("warnings %s: want %q", errs, want)
+		}
+	}
+	if !strings.Contains(out, "2024-05-02T11:00:00+10:00") {
+		t.Errorf("the report does not write the gauging's time at +10:00: %s", out)
+	}
+}

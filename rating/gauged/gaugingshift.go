@@ -147,22 +147,23 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 	}
 	c := ShiftCheck{Units: opt.Units, UTCOffset: opt.UTCOffset, History: r.History(), ShiftPeriods: append([]int(nil), r.used...),
 		Gaugings: make([]GaugingShift, len(gs)), Warnings: append([]string(nil), r.Warnings...)}
+	z := zone(opt.UTCOffset)
 	for i, g := range gs {
-		c.Gaugings[i] = r.checkOne(g, &c.Warnings)
+		c.Gaugings[i] = r.checkOne(g, z, &c.Warnings)
 	}
-	c.visits(gap)
+	c.visits(gap, z)
 	return c, nil
 }
 
-// checkOne measures one gauging.
-func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
+// checkOne measures one gauging; warnings write times in zone z.
+func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShift {
 	nan := math.NaN()
 	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan,
 		Lookup: NoRating, ShiftedLookup: NoRating}
 	base := r.At(g.Time, g.Stage)
 	out.Period, out.ShiftedLookup = base.Period, base.Lookup
 	if base.Lookup == NoRating {
-		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.Format(time.RFC3339)))
+		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.In(z).Format(time.RFC3339)))
 		return out
 	}
 	rt := r.periods[base.Period].rating
@@ -216,8 +217,9 @@ func departure(g Gauging, rated float64) (float64, bool) {
 }
 
 // visits groups the gaugings into visits (gaps of at most gap, one rating
-// period each) and proposes their diagrams.
-func (c *ShiftCheck) visits(gap time.Duration) {
+// period each) and proposes their diagrams; warnings write times in
+// zone z.
+func (c *ShiftCheck) visits(gap time.Duration, z *time.Location) {
 	idx := make([]int, len(c.Gaugings))
 	for i := range idx {
 		idx[i] = i
@@ -234,12 +236,12 @@ func (c *ShiftCheck) visits(gap time.Duration) {
 		v.Gaugings = append(v.Gaugings, i)
 	}
 	for k := range c.Visits {
-		c.propose(&c.Visits[k])
+		c.propose(&c.Visits[k], z)
 	}
 }
 
 // propose lays a shift diagram through a visit's measured shifts.
-func (c *ShiftCheck) propose(v *Visit) {
+func (c *ShiftCheck) propose(v *Visit, z *time.Location) {
 	type sum struct {
 		stage, shift float64
 		n            int
@@ -268,7 +270,7 @@ func (c *ShiftCheck) propose(v *Visit) {
 		d.Points = append(d.Points, ShiftPoint{Stage: p.stage, Shift: p.shift / float64(p.n)})
 	}
 	if err := d.Validate(); err != nil {
-		c.Warnings = append(c.Warnings, fmt.Sprintf("the visit of %s proposes no diagram: its shifts make one that is refused: %v", v.Time.Format(time.RFC3339), err))
+		c.Warnings = append(c.Warnings, fmt.Sprintf("the visit of %s proposes no diagram: its shifts make one that is refused: %v", v.Time.In(z).Format(time.RFC3339), err))
 		return
 	}
 	v.Proposal = d

@@ -247,6 +247,40 @@ func TestCheckGaugingsVisitAcrossBreak(t *testing.T) {
 	}
 }
 
+// TestMessagesInOffset: the rater's and the check's warnings write times
+// in the offset asked for, as the reports do; the instants are the same.
+// 00:00 UTC on 3 June 2024 is 10:00 at +10:00 and 19:00 on 2 June at -05:00.
+func TestMessagesInOffset(t *testing.T) {
+	at := time.Date(2024, 6, 3, 0, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		offset time.Duration
+		when   string
+	}{
+		{0, "2024-06-03T00:00:00Z"},
+		{10 * time.Hour, "2024-06-03T10:00:00+10:00"},
+		{-5 * time.Hour, "2024-06-02T19:00:00-05:00"},
+	} {
+		t.Run(tc.when, func(t *testing.T) {
+			h := History{Periods: []Period{{From: at.Add(time.Hour), Rating: linearRating("q=10h", 10)}},
+				Shifts: []ShiftDiagram{{Time: at, Points: []ShiftPoint{{Stage: 1, Shift: 0.1}}}}, UTCOffset: tc.offset}
+			r := compileHistory(t, h)
+			c, err := r.CheckGaugings([]Gauging{{Time: at, Stage: 1, Discharge: 12, Source: "g:2"}}, CheckOptions{UTCOffset: tc.offset})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, want := range []string{"the shift diagram of " + tc.when + " is not used", "g:2: no rating is in force at " + tc.when} {
+				found := false
+				for _, w := range c.Warnings {
+					found = found || strings.HasPrefix(w, want)
+				}
+				if !found {
+					t.Errorf("no warning %q in %q", want, c.Warnings)
+				}
+			}
+		})
+	}
+}
+
 // TestCheckGaugingsNoShift: a gauging under a rating whose shift cannot be
 // measured is marked NoShift; a zero discharge where the rating has flow
 // is warned of. Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2 (Q = 2 at
