@@ -195,3 +195,30 @@ func TestTooFineStep(t *testing.T) {
 		})
 	}
 }
+
+// TestCompareSummaryUnits: the console summary after a written comparison
+// gives the stage of the largest difference with its unit, SI or US.
+func TestCompareSummaryUnits(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		units, unit string
+	}{{"si", " m,"}, {"us", " ft,"}} {
+		t.Run(tc.units, func(t *testing.T) {
+			t.Parallel()
+			path := filepath.Join(t.TempDir(), "c.txt")
+			_, errs, code := runCLI(t, "compare", recRatingA, recRatingB, "--units", tc.units, "-o", path)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			i := strings.Index(errs, "largest difference")
+			if i < 0 {
+				t.Fatalf("no summary: %s", errs)
+			}
+			line := errs[i:]
+			line = line[:strings.IndexByte(line, '\n')]
+			if !strings.Contains(line, tc.unit) || !strings.Contains(line, "% at stage ") {
+				t.Errorf("summary %q: want the stage in%s", line, strings.TrimSuffix(tc.unit, ","))
+			}
+		})
+	}
+}
