@@ -100,6 +100,10 @@ func NiceStep(x float64) float64 {
 // ErrStages is returned for an unusable stage range.
 var ErrStages = errors.New("stage range")
 
+// ErrStepTooFine is returned for a step that would lay out more than
+// MaxStages stages over its range; it wraps ErrStages.
+var ErrStepTooFine = fmt.Errorf("%w: the step is too fine", ErrStages)
+
 // MaxStages bounds the number of stages one range may produce. A row of a
 // table takes about 0.7 kB with six subsections (measured with the demo
 // section: 690 bytes a row live), so the largest table takes under 1 GB;
@@ -116,7 +120,7 @@ func StageRange(from, to, step float64) ([]float64, error) {
 	}
 	n := math.Floor((to-from)/step + StageEpsilon)
 	if n+2 > MaxStages {
-		return nil, fmt.Errorf("%w: %g stages is more than %d", ErrStages, n+1, MaxStages)
+		return nil, fmt.Errorf("%w: %.3g stages from %g to %g is more than %d", ErrStepTooFine, n+1, from, to, MaxStages)
 	}
 	out := steppedStages(from, step, int(n))
 	if to-out[len(out)-1] > step*StageEpsilon*10 {

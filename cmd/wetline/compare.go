@@ -177,6 +177,9 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		}
 	}
 	c, err := gauged.CompareRatings(tables[0], tables[1], gauged.CompareOptions{Step: f.step, Units: d.Units})
+	if errors.Is(err, rating.ErrStepTooFine) {
+		return tooFineStep("compare", f.step, d.Units, err)
+	}
 	if err != nil {
 		return fmt.Errorf("compare: %s and %s: %w", a, b, err)
 	}
@@ -193,7 +196,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		"text": results.WriteRatingComparisonText, "json": results.WriteRatingComparisonJSON,
 		"csv": results.WriteRatingComparisonCSV, "xlsx": results.WriteRatingComparisonWorkbook,
 	}[format]
-	what := fmt.Sprintf("two ratings, largest difference %s %% at stage %s", strings.TrimSpace(fmt.Sprintf("%.2f", c.MaxPercent)), results.FormatLength(c.MaxStage))
+	what := fmt.Sprintf("two ratings, largest difference %s %% at stage %s %s", strings.TrimSpace(fmt.Sprintf("%.2f", c.MaxPercent)), results.FormatLength(c.MaxStage), c.Units.Length())
 	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) }, what, len(c.Rows))
 }
 
@@ -222,7 +225,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	if err != nil {
 		return err
 	}
-	stages, err := f.sectionStages(ps[0].Geometry, ps[1].Geometry)
+	stages, err := f.sectionStages(ps[0].Geometry, ps[1].Geometry, ps[0].Units)
 	if err != nil {
 		return err
 	}
@@ -289,13 +292,16 @@ func (f *compareFlags) readSurveys(fs *flagSet, a, b string) ([2]*survey.Prepare
 // sectionStages are the stages of a comparison of two surveys: --stages,
 // a range at --step from the lower bottom to the lower top, or nil for
 // the default range.
-func (f *compareFlags) sectionStages(a, b subdivide.Geometry) ([]float64, error) {
+func (f *compareFlags) sectionStages(a, b subdivide.Geometry, u rating.Units) ([]float64, error) {
 	if len(f.stages) > 0 {
 		return f.stages, nil
 	}
 	if f.step > 0 {
 		lo, hi := math.Min(a.Bottom(), b.Bottom()), math.Min(a.Top(), b.Top())
 		st, err := rating.StageRange(lo, hi, f.step)
+		if errors.Is(err, rating.ErrStepTooFine) {
+			return nil, tooFineStep("compare", f.step, u, err)
+		}
 		if err != nil {
 			return nil, usageError{err: fmt.Errorf("compare: --step %g: %w", f.step, err)}
 		}

@@ -212,3 +212,57 @@ func TestCompareRefusals(t *testing.T) {
 		})
 	}
 }
+
+// TestTooFineStep: a --step laying out more than rating.MaxStages stages
+// (a million) is a usage error naming --step with its unit, in every
+// command that takes one. 1e-9 m over any of these ranges (about 3 m of
+// rating table, 4.5 m of section) gives billions.
+func TestTooFineStep(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"rate", []string{"rate", fitDemoSurvey, "--slope", "0.001", "--step", "1e-9"}},
+		{"compare ratings", []string{"compare", recRatingA, recRatingB, "--step", "1e-9"}},
+		{"compare surveys", []string{"compare", fitDemoSurvey, fitDemoSurvey, "--step", "1e-9"}},
+		{"fit", []string{"fit", fitDemoGaugings, "--method", "lsq", "--step", "1e-9"}},
+		{"fit with a section", []string{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq", "--step", "1e-9"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			_, errs, code := runCLI(t, tc.args...)
+			want := tc.args[0] + ": --step 1e-09 m: "
+			if code != 2 || !strings.Contains(errs, want) || !strings.Contains(errs, "is more than 1000000") {
+				t.Errorf("exit %d, stderr %q; want 2 and %q", code, errs, want)
+			}
+		})
+	}
+}
+
+// TestCompareSummaryUnits: the console summary after a written comparison
+// gives the stage of the largest difference with its unit, SI or US.
+func TestCompareSummaryUnits(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		units, unit string
+	}{{"si", " m,"}, {"us", " ft,"}} {
+		t.Run(tc.units, func(t *testing.T) {
+			t.Parallel()
+			path := filepath.Join(t.TempDir(), "c.txt")
+			_, errs, code := runCLI(t, "compare", recRatingA, recRatingB, "--units", tc.units, "-o", path)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			i := strings.Index(errs, "largest difference")
+			if i < 0 {
+				t.Fatalf("no summary: %s", errs)
+			}
+			line := errs[i:]
+			line = line[:strings.IndexByte(line, '\n')]
+			if !strings.Contains(line, tc.unit) || !strings.Contains(line, "% at stage ") {
+				t.Errorf("summary %q: want the stage in%s", line, strings.TrimSuffix(tc.unit, ","))
+			}
+		})
+	}
+}

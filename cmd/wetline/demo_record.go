@@ -168,7 +168,7 @@ func demoTrueShift(t time.Time, h float64) float64 {
 
 // demoRatings reads the two ratings as the record uses them.
 func (d *demo) demoRatings() (gauged.History, error) {
-	var h gauged.History
+	h := gauged.History{UTCOffset: demoRecordOffset}
 	for _, r := range []struct {
 		name string
 		from time.Time

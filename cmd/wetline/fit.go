@@ -199,6 +199,12 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if errors.As(err, &below) {
 		return nil, f.belowZeroFlow(below)
 	}
+	if sel := opt.Controls.Selection; errors.Is(err, gauged.ErrFewGaugings) && !(sel.From.IsZero() && sel.To.IsZero()) {
+		return nil, fmt.Errorf("fit: --period %s: %s: %w; widen the period or leave --period out", strings.TrimSpace(f.period), path, err)
+	}
+	if errors.Is(err, rating.ErrStepTooFine) {
+		return nil, tooFineStep("fit", f.step, d.Units, err)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -468,12 +474,12 @@ func (f *fitFlags) zeroFlowOption(opt *gauged.Options) error {
 }
 
 // periodHolds checks that the rating period of --period holds at least
-// one of the gaugings read from path, when a fit is to be made: a period
-// holding none is an error naming the flag, its value and the times the
-// gaugings span.
+// one of the gaugings read from path, for a fit or a comparison alone: a
+// period holding none is an error naming the flag, its value and the
+// times the gaugings span.
 func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Options) error {
 	sel := opt.Controls.Selection
-	if opt.CompareOnly || (sel.From.IsZero() && sel.To.IsZero()) {
+	if sel.From.IsZero() && sel.To.IsZero() {
 		return nil
 	}
 	period := gauged.Selection{From: sel.From, To: sel.To}
@@ -510,7 +516,7 @@ func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
 	if strings.EqualFold(strings.TrimSpace(f.zeroFlow), "control") {
 		what = fmt.Sprintf("--zero-flow control (%s %s from %s)", strconv.FormatFloat(e.ZeroFlow, 'g', 6, 64), L, e.Source)
 	}
-	return fmt.Errorf("fit: %s: %d of the %d gaugings used, the lowest %s at %s %s: %w; give a value below every gauging fitted, or auto to fit it",
+	return fmt.Errorf("fit: %s: %d of the %d gaugings used lie at or below it, the lowest %s at %s %s, where a rating has no discharge (%w); give a value below every gauging fitted, or auto to fit it",
 		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
 }
 

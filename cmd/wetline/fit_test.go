@@ -548,3 +548,36 @@ func TestFitSectionWithoutDatum(t *testing.T) {
 		t.Errorf("elevations: exit %d\n%.600s\n%s", code, out, errs)
 	}
 }
+
+// TestDemoFitStatesDatum: the demo's text fits state the gauge datum they
+// use (demoDatum) as the same fit on the command line with --datum does.
+func TestDemoFitStatesDatum(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	datumLine := func(text string) string {
+		for _, l := range strings.Split(text, "\n") {
+			if strings.HasPrefix(l, "Gauge datum:") {
+				return l
+			}
+		}
+		return ""
+	}
+	out, errs, code := runCLI(t, "fit", filepath.Join(dir, demoGaugings), "--section", filepath.Join(dir, demoSurvey),
+		"--slope", fmt.Sprint(demoSlope), "--datum", fmt.Sprint(demoDatum), "--method", "lsq")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	want := datumLine(out)
+	if !strings.Contains(want, "+ 100 m") {
+		t.Fatalf("the command's datum line %q", want)
+	}
+	for _, name := range []string{"tallow-fit.txt", "tallow-fit-lsq.txt"} {
+		b, err := os.ReadFile(filepath.Join(dir, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := datumLine(string(b)); got != want {
+			t.Errorf("%s: %q, want %q", name, got, want)
+		}
+	}
+}

@@ -10,6 +10,8 @@ import (
 	"strings"
 
 	"github.com/spf13/pflag"
+
+	"wetline/rating"
 )
 
 // flagSet is a subcommand's flags with its usage line.
@@ -220,4 +222,14 @@ func extensions(formats []string) []string {
 		out[i] = f
 	}
 	return out
+}
+
+// tooFineStep turns an error of a --step too fine for its range
+// (rating.ErrStepTooFine) into a usage error of cmd naming --step with its
+// value and length unit; other errors, and nil, pass unchanged.
+func tooFineStep(cmd string, step float64, u rating.Units, err error) error {
+	if !errors.Is(err, rating.ErrStepTooFine) {
+		return err
+	}
+	return usageError{err: fmt.Errorf("%s: --step %s %s: %w; give a coarser step", cmd, strconv.FormatFloat(step, 'g', -1, 64), u.Length(), err)}
 }

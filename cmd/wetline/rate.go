@@ -164,6 +164,13 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 		return rating.RatingReport{}, err
 	}
 	stages, err := f.stageSpec(fs).Stages(p.Geometry)
+	if err != nil && fs.Changed("step") {
+		err = tooFineStep("rate", f.step, p.Units, err)
+	}
+	var ue usageError
+	if errors.As(err, &ue) {
+		return rating.RatingReport{}, err
+	}
 	if err != nil {
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
 	}

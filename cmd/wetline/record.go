@@ -207,6 +207,7 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		return h, nil, nil, err
 	}
 	hf.decided, hf.unitSystem = d, d.Units
+	h.UTCOffset = time.Duration(hf.offset)
 	return h, inputs, warnings, nil
 }
 

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -411,5 +412,59 @@ func TestRecordStageSite(t *testing.T) {
 	}
 	if code != 0 || json.Unmarshal([]byte(out), &doc) != nil || doc.Site == nil || doc.Site.Name != "Fernbrook at Old Weir" || doc.Site.ID != "FB-1" {
 		t.Errorf("JSON: exit %d, site %+v\n%s", code, doc.Site, errs)
+	}
+}
+
+// TestRecordTableFoot: a rating whose first row is dry at the gauge height
+// of zero flow is read on the power law of the rows above it between that
+// row and the first row with flow, once --zero-flow gives e; without e it
+// stays linear there, with the warning asking for e.
+//
+// Rows (0.2, 0), (0.7, 2), (1.2, 8) with e = 0.2: above 0.7 the law is
+// Q = 2·((h − 0.2)/0.5)² (b = ln 4/ln 2 = 2), so at 0.45 m Q = 2·0.25 = 0.5
+// (by hand); linear from (0.2, 0) to (0.7, 2) gives 1.
+func TestRecordTableFoot(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	table := filepath.Join(dir, "foot.csv")
+	stages := filepath.Join(dir, "stage.csv")
+	if err := os.WriteFile(table, []byte("stage,discharge\n0.2,0\n0.7,2\n1.2,8\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(stages, []byte("time,stage\n2024-10-01T00:00,0.45\n2024-10-01T00:15,0.95\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const tol = 1e-5 // six significant digits in the CSV
+	for _, tc := range []struct {
+		name     string
+		extra    []string
+		q        []float64
+		warnings bool
+	}{
+		{"e given", []string{"--zero-flow", "0.2"}, []float64{0.5, 4.5}, false},
+		{"e not given", nil, []float64{1, 5}, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			args := append([]string{"record", stages, "--rating", table, "--unit", "--format", "csv"}, tc.extra...)
+			out, errs, code := runCLI(t, args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			lines := strings.Split(strings.TrimSpace(out), "\n")
+			if len(lines) != 1+len(tc.q) {
+				t.Fatalf("unit rows %q", lines)
+			}
+			for i, want := range tc.q {
+				f := strings.Split(lines[i+1], ",")
+				var q float64
+				if _, err := fmt.Sscan(f[4], &q); err != nil || math.Abs(q-want) > tol*want {
+					t.Errorf("row %q: discharge %s, want %g", lines[i+1], f[4], want)
+				}
+			}
+			if warned := strings.Contains(errs, "give the gauge height of zero flow"); warned != tc.warnings {
+				t.Errorf("warning of the dry first row: %v, want %v: %s", warned, tc.warnings, errs)
+			}
+		})
 	}
 }

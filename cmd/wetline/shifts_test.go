@@ -160,9 +160,10 @@ func TestShiftsRefusals(t *testing.T) {
 }
 
 // TestShiftsVisitGap: gaugings no more than --visit-gap apart make one
-// visit; 0 makes every gauging its own. The test gaugings are at 09:00
-// and 12:00 on one day and 11:00 the next (3 h and 23 h apart), so the
-// visit counts follow by hand.
+// visit; 0 makes every gauging its own; a rating break splits a visit. The
+// test gaugings are at 09:00 and 12:00 on one day and 11:00 the next (3 h
+// and 23 h apart, the second rating in force from midnight between them),
+// so the visit counts follow by hand.
 func TestShiftsVisitGap(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
@@ -173,7 +174,7 @@ func TestShiftsVisitGap(t *testing.T) {
 		{[]string{"--visit-gap", "0"}, 3},
 		{[]string{"--visit-gap", "2h"}, 3},
 		{[]string{"--visit-gap", "3h"}, 2},
-		{[]string{"--visit-gap", "24h"}, 1},
+		{[]string{"--visit-gap", "24h"}, 2}, // split at the break at midnight
 	} {
 		out, errs, code := runCLI(t, shiftsArgs(append(tc.gap, "--format", "json")...)...)
 		if code != 0 {
@@ -186,5 +187,65 @@ func TestShiftsVisitGap(t *testing.T) {
 		if len(doc.Visits) != tc.visits {
 			t.Errorf("%v: %d visits, want %d", tc.gap, len(doc.Visits), tc.visits)
 		}
+	}
+}
+
+// TestShiftsFlagsEveryProblem: each gauging the check cannot measure is
+// flagged and warned of. On testdata/record/rating-a.csv (first row 0.40 m,
+// 0.6 m3/s; last 1.60 m, 17.5 m3/s) with e = 0.2 until a period without a
+// rating from 1 June: zero discharge at 0.84 m, where the rating has flow,
+// has no shift; zero at 0.15 m (below e) agrees with the rating; 2.0 m is
+// above the last row and 30 m3/s beyond it; a gauging in June has no
+// rating.
+func TestShiftsFlagsEveryProblem(t *testing.T) {
+	t.Parallel()
+	gaugings := filepath.Join(t.TempDir(), "g.csv")
+	if err := os.WriteFile(gaugings, []byte("time,stage,discharge,quality\n"+
+		"2024-05-01T09:00,0.84,0,good\n2024-05-02T09:00,0.15,0,good\n2024-05-03T09:00,2.0,30,good\n2024-06-02T09:00,0.84,4.1,good\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runCLI(t, "shifts", gaugings, "--rating", recRatingA, "--rating", "none@2024-06-01", "--zero-flow", "0.2", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows := strings.Split(strings.TrimSpace(out), "\n")
+	for i, tc := range []struct {
+		flags, warning string
+	}{
+		{"no_shift", "g.csv:2: zero discharge measured at gauge height 0.84, where the rating \"rating-a.csv\" gives"},
+		{"below_zero_flow", "g.csv:3: gauge height 0.15 is at or below the zero-flow stage 0.2"},
+		{"outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
+		{"no_rating", "g.csv:5: no rating is in force"},
+	} {
+		f := strings.Split(rows[i+1], ",")
+		if got := f[len(f)-1]; got != tc.flags {
+			t.Errorf("row %q: flags %q, want %q", rows[i+1], got, tc.flags)
+		}
+		if !strings.Contains(errs, tc.warning) {
+			t.Errorf("no warning %q in %s", tc.warning, errs)
+		}
+	}
+}
+
+// TestShiftsWarningsInOffset: with --utc-offset the warnings write times in
+// that offset, as the report does. Read at +10:00, the test diagram of
+// 2024-05-01T00:00 lies before the rating from 06:00 that day, the one of
+// 2024-05-02T06:00 and the gauging of 2024-05-02T11:00 in the period
+// without a rating from midnight.
+func TestShiftsWarningsInOffset(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "shifts", recGaugings, "--rating", recRatingA+"@2024-05-01T06:00", "--rating", "none@2024-05-02T00:00", "--zero-flow", "0.2",
+		"--shifts", recShifts, "--utc-offset", "+10:00", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"the shift diagram of 2024-05-01T00:00:00+10:00 (", "the shift diagram of 2024-05-02T06:00:00+10:00 (",
+		"no rating is in force at 2024-05-02T11:00:00+10:00"} {
+		if !strings.Contains(errs, want) {
+			t.Errorf("warnings %s: want %q", errs, want)
+		}
+	}
+	if !strings.Contains(out, "2024-05-02T11:00:00+10:00") {
+		t.Errorf("the report does not write the gauging's time at +10:00: %s", out)
 	}
 }

@@ -19,11 +19,14 @@ func TestZeroFlowFlagErrors(t *testing.T) {
 		want []string
 	}{
 		{"fit above every gauging", []string{"fit", fitDemoGaugings, "--zero-flow", "5"}, "tallow-gaugings.csv",
-			[]string{"fit: --zero-flow 5: 24 of the 24 gaugings used", "the lowest demodata/tallow-gaugings.csv:17 at 0.46 m", "at or below the gauge height of zero flow"}},
+			[]string{"fit: --zero-flow 5: 24 of the 24 gaugings used lie at or below it, the lowest demodata/tallow-gaugings.csv:17 at 0.46 m, where a rating has no discharge",
+				"at or below the gauge height of zero flow"}},
 		{"fit above the lowest, lsq", []string{"fit", fitDemoGaugings, "--zero-flow", "0.5", "--method", "lsq"}, "tallow-gaugings.csv",
 			[]string{"fit: --zero-flow 0.5: 1 of the 24 gaugings used", "tallow-gaugings.csv:17 at 0.46 m"}},
 		{"record", []string{"record", recStages, "--rating", recRatingA, "--zero-flow", "0.5"}, "rating-a.csv",
 			[]string{"record: --zero-flow 0.5: ", "rating-a.csv:3:1", "above a row with flow"}},
+		{"record, at the first row", []string{"record", recStages, "--rating", recRatingA, "--zero-flow", "0.40"}, "rating-a.csv",
+			[]string{"record: --zero-flow 0.4: ", "rating-a.csv:3:1", "is at or above a row with flow"}},
 		{"shifts, the second rating", []string{"shifts", recGaugings, "--rating", recRatingA, "--rating", recRatingB + "@2024-05-02", "--zero-flow", "0.2,0.35"}, "rating-b.csv",
 			[]string{"shifts: --zero-flow 0.35: ", "rating-b.csv:3:1", "above a row with flow"}},
 		{"compare", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.5"}, "rating-a.csv",

@@ -412,3 +412,35 @@ func TestBayesWetTablePrior(t *testing.T) {
 		}
 	}
 }
+
+// A prior's source states its range of gauge heights with the unit of the
+// fit, from the section or from its table.
+func TestPriorSourceUnits(t *testing.T) {
+	c := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	tab := tableOf(t, c, 0.02)
+	for _, tc := range []struct {
+		name  string
+		units rating.Units
+		want  string
+	}{
+		{"SI", rating.SI, "from 0.3 to 3 m ("},
+		{"US", rating.US, "from 0.3 to 3 ft ("},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			opt := gauged.HydraulicPriorOptions{OffsetFixed: true, Offset: 0, Units: tc.units}
+			fromSection, err := gauged.HydraulicPrior(c, 0.3, 3, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			fromTable, err := gauged.TablePrior(tab, 0.3, 3, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, src := range []string{fromSection.Source, fromTable.Source} {
+				if !strings.Contains(src, tc.want) {
+					t.Errorf("source %q does not say %q", src, tc.want)
+				}
+			}
+		})
+	}
+}

@@ -254,7 +254,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	f.Posterior = post
 	f.Controls = b.controlsFromPosterior(r, post)
 	f.Warnings = append(f.Warnings, post.warnings()...)
-	f.finishCommon(gs, reasons, b.exponentBounds())
+	f.finishCommon(gs, opt.Selection, reasons, b.exponentBounds())
 	f.Warnings = append(f.Warnings, b.thinControls(r)...)
 	return f, nil
 }
@@ -586,7 +586,7 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 	weakSrc := fmt.Sprintf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
 	switch {
 	case m.kinds[j] == ChannelControl && o.Hydraulic != nil:
-		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV}
+		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
 		switch {
 		case j > 0 && m.joints[j] == Add:
 			ho.Part, ho.OffsetFixed, ho.Offset = OverbankPart, true, from
@@ -610,7 +610,7 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 		if j > 0 && m.joints[j] == Add {
 			return weak, weakSrc, fmt.Errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
 		}
-		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV}
+		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
 		if p := b.priors[m.iB()]; j == 0 && finite(p.mean) {
 			ho.OffsetFixed, ho.Offset = true, p.mean
 		}

@@ -278,7 +278,7 @@ func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
 		step = rating.NiceStep((top - lo) / rating.MaxDefaultRows)
 	}
 	if (top-lo)/step > rating.MaxStages {
-		return nil, fmt.Errorf("%w: step %g is too small for %g to %g", rating.ErrStages, step, lo, top)
+		return nil, fmt.Errorf("%w: %.3g stages from %s to %s is more than %d", rating.ErrStepTooFine, (top-lo)/step, gh(lo), gh(top), rating.MaxStages)
 	}
 	keep := []float64{lo, top}
 	for _, m := range must {

@@ -117,9 +117,9 @@ const stageMerge = 0.05
 //
 // Errors: ErrBeyondSection for opt.To above the top (the section's lower
 // end, or the highest gauging without a section) or for a section dry at
-// the highest gauging; rating.ErrStages for opt.To not above e or a step
-// giving more than rating.MaxStages rows; the errors of the hydraulic
-// rating.
+// the highest gauging; rating.ErrStages for opt.To not above e,
+// rating.ErrStepTooFine for a step giving more than rating.MaxStages rows;
+// the errors of the hydraulic rating.
 //
 // References:
 //
@@ -154,7 +154,7 @@ func LookupTable(f *Fit, opt TableOptions) (FitTable, error) {
 		step = rating.NiceStep((top - lo) / rating.MaxDefaultRows)
 	}
 	if (top-lo)/step > rating.MaxStages {
-		return t, fmt.Errorf("%w: step %g is too small for %g to %g", rating.ErrStages, step, lo, top)
+		return t, fmt.Errorf("%w: %.3g stages from %s to %s is more than %d", rating.ErrStepTooFine, (top-lo)/step, gh(lo), gh(top), rating.MaxStages)
 	}
 	for _, h := range fitTableStages(f, lo, top, step) {
 		r, err := t.rule(f, c, h)

@@ -48,17 +48,24 @@ type GaugingShift struct {
 	// beyond the table's rows, ZeroFlow at or below the zero-flow stage;
 	// NoRating without a rating).
 	Lookup, ShiftedLookup Lookup
+	// NoShift reports a gauging under a rating whose shift could not be
+	// measured (Shift NaN): a discharge the rating carries at no stage
+	// (beyond its rows, or zero where the rating has flow). A zero
+	// discharge at a gauge height the rating also rates 0 needs no shift
+	// and is not marked.
+	NoShift bool
 }
 
-// Visit is a field visit: gaugings close together in time, and the shift
-// diagram they propose.
+// Visit is a field visit: gaugings close together in time under one rating
+// period, and the shift diagram they propose. A visit spanning a rating
+// break is split there, each part a Visit of its own.
 type Visit struct {
 	// Time is the time of the visit's first gauging.
 	Time time.Time
 	// Gaugings are indices into ShiftCheck.Gaugings, in time order.
 	Gaugings []int
-	// Period is the 0-based index of the rating period in force at Time
-	// (that of the first gauging), -1 when none is.
+	// Period is the 0-based index of the rating period in force at the
+	// visit's gaugings, -1 when none is.
 	Period int
 	// Proposal is a shift diagram through the visit's measured shifts (one
 	// point per gauge height, shifts measured at one gauge height averaged),
@@ -140,22 +147,23 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 	}
 	c := ShiftCheck{Units: opt.Units, UTCOffset: opt.UTCOffset, History: r.History(), ShiftPeriods: append([]int(nil), r.used...),
 		Gaugings: make([]GaugingShift, len(gs)), Warnings: append([]string(nil), r.Warnings...)}
+	z := zone(opt.UTCOffset)
 	for i, g := range gs {
-		c.Gaugings[i] = r.checkOne(g, &c.Warnings)
+		c.Gaugings[i] = r.checkOne(g, z, &c.Warnings)
 	}
-	c.visits(gap)
+	c.visits(gap, z)
 	return c, nil
 }
 
-// checkOne measures one gauging.
-func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
+// checkOne measures one gauging; warnings write times in zone z.
+func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShift {
 	nan := math.NaN()
 	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan,
 		Lookup: NoRating, ShiftedLookup: NoRating}
 	base := r.At(g.Time, g.Stage)
 	out.Period, out.ShiftedLookup = base.Period, base.Lookup
 	if base.Lookup == NoRating {
-		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.Format(time.RFC3339)))
+		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.In(z).Format(time.RFC3339)))
 		return out
 	}
 	rt := r.periods[base.Period].rating
@@ -173,6 +181,11 @@ func (r *Rater) checkOne(g Gauging, warn *[]string) GaugingShift {
 			out.Residual = out.Shift - out.Applied
 		}
 	}
+	if g.Discharge == 0 && out.Rated > 0 {
+		*warn = append(*warn, fmt.Sprintf("%s: zero discharge measured at gauge height %g, where the rating %q gives %.4g: no shift can be measured (the rating has no stage of zero flow above it)",
+			g.label(), g.Stage, rt.Name(), out.Rated))
+	}
+	out.NoShift = math.IsNaN(out.Shift) && !(g.Discharge == 0 && out.Rated == 0)
 	if math.IsNaN(out.Rated) {
 		*warn = append(*warn, fmt.Sprintf("%s: gauge height %g is outside the rating %q", g.label(), g.Stage, rt.Name()))
 	}
@@ -203,8 +216,10 @@ func departure(g Gauging, rated float64) (float64, bool) {
 	return d, g.Quality.Outside(d)
 }
 
-// visits groups the gaugings into visits and proposes their diagrams.
-func (c *ShiftCheck) visits(gap time.Duration) {
+// visits groups the gaugings into visits (gaps of at most gap, one rating
+// period each) and proposes their diagrams; warnings write times in
+// zone z.
+func (c *ShiftCheck) visits(gap time.Duration, z *time.Location) {
 	idx := make([]int, len(c.Gaugings))
 	for i := range idx {
 		idx[i] = i
@@ -212,19 +227,21 @@ func (c *ShiftCheck) visits(gap time.Duration) {
 	sort.SliceStable(idx, func(a, b int) bool { return c.Gaugings[idx[a]].Time.Before(c.Gaugings[idx[b]].Time) })
 	for k, i := range idx {
 		g := c.Gaugings[i]
-		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap {
+		// A rating break ends a visit: shifts measured on two ratings make
+		// no one diagram.
+		if k == 0 || g.Time.Sub(c.Gaugings[idx[k-1]].Time) > gap || g.Period != c.Gaugings[idx[k-1]].Period {
 			c.Visits = append(c.Visits, Visit{Time: g.Time, Period: g.Period})
 		}
 		v := &c.Visits[len(c.Visits)-1]
 		v.Gaugings = append(v.Gaugings, i)
 	}
 	for k := range c.Visits {
-		c.propose(&c.Visits[k])
+		c.propose(&c.Visits[k], z)
 	}
 }
 
 // propose lays a shift diagram through a visit's measured shifts.
-func (c *ShiftCheck) propose(v *Visit) {
+func (c *ShiftCheck) propose(v *Visit, z *time.Location) {
 	type sum struct {
 		stage, shift float64
 		n            int
@@ -253,7 +270,7 @@ func (c *ShiftCheck) propose(v *Visit) {
 		d.Points = append(d.Points, ShiftPoint{Stage: p.stage, Shift: p.shift / float64(p.n)})
 	}
 	if err := d.Validate(); err != nil {
-		c.Warnings = append(c.Warnings, fmt.Sprintf("the visit of %s proposes no diagram: its shifts make one that is refused: %v", v.Time.Format(time.RFC3339), err))
+		c.Warnings = append(c.Warnings, fmt.Sprintf("the visit of %s proposes no diagram: its shifts make one that is refused: %v", v.Time.In(z).Format(time.RFC3339), err))
 		return
 	}
 	v.Proposal = d

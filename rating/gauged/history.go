@@ -33,6 +33,15 @@ type History struct {
 	Periods []Period
 	// Shifts ascend strictly in Time.
 	Shifts []ShiftDiagram
+	// UTCOffset is the offset from UTC (east positive; default 0, UTC) in
+	// which the compiled Rater's warnings and Compile's errors write
+	// times; it changes no instant.
+	UTCOffset time.Duration
+}
+
+// zone is the fixed zone of a UTC offset, in which messages write times.
+func zone(offset time.Duration) *time.Location {
+	return time.FixedZone("", int(offset/time.Second))
 }
 
 // A HistoryError reports a rating period or a shift diagram of a history
@@ -115,12 +124,14 @@ func unix(t time.Time) int64 {
 // ErrPeriodOrder, ErrShiftTime). Times are taken to the second.
 func (h History) Compile() (*Rater, error) {
 	r := &Rater{used: make([]int, len(h.Shifts))}
+	z := zone(h.UTCOffset)
+	at := func(t time.Time) string { return t.In(z).Format(time.RFC3339) }
 	r.history.Periods = append([]Period(nil), h.Periods...)
 	r.history.Shifts = append([]ShiftDiagram(nil), h.Shifts...)
 	for i, p := range h.Periods {
 		pr := periodRater{from: unix(p.From)}
 		if i > 0 && pr.from <= r.periods[i-1].from {
-			return nil, &HistoryError{Period: i, Shift: -1, Err: fmt.Errorf("%w: %s is not after %s", ErrPeriodOrder, p.From.Format(time.RFC3339), h.Periods[i-1].From.Format(time.RFC3339))}
+			return nil, &HistoryError{Period: i, Shift: -1, Err: fmt.Errorf("%w: %s is not after %s", ErrPeriodOrder, at(p.From), at(h.Periods[i-1].From))}
 		}
 		if p.Rating != nil {
 			c, err := p.Rating.Compile()
@@ -142,7 +153,7 @@ func (h History) Compile() (*Rater, error) {
 		}
 		t := d.Time.Unix()
 		if i > 0 && t <= h.Shifts[i-1].Time.Unix() {
-			return nil, &HistoryError{Period: -1, Shift: i, Err: fmt.Errorf("%w: %s is not after %s", ErrShiftTime, d.Time.Format(time.RFC3339), h.Shifts[i-1].Time.Format(time.RFC3339))}
+			return nil, &HistoryError{Period: -1, Shift: i, Err: fmt.Errorf("%w: %s is not after %s", ErrShiftTime, at(d.Time), at(h.Shifts[i-1].Time))}
 		}
 		d.Points = append([]ShiftPoint(nil), d.Points...)
 		r.history.Shifts[i] = d
@@ -151,7 +162,7 @@ func (h History) Compile() (*Rater, error) {
 		if p < 0 || r.periods[p].rating == nil {
 			r.used[i] = -1
 			r.Warnings = append(r.Warnings, fmt.Sprintf("the shift diagram of %s%s is not used: no rating is in force at its time",
-				d.Time.Format(time.RFC3339), sourceNote(d.Source)))
+				at(d.Time), sourceNote(d.Source)))
 			continue
 		}
 		pr := &r.periods[p]

@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 	"time"
 
@@ -191,6 +192,133 @@ func TestCheckGaugings(t *testing.T) {
 	}
 }
 
+// TestCheckGaugingsVisitAcrossBreak: gaugings within the visit gap but
+// under two rating periods make two visits, each with its own period,
+// diagram and source; gaugings of one period within the gap stay one.
+//
+// Ratings Q = 10h until 11:00 and Q = 20h from then (linear, through 0):
+// at 10:00, h = 1.0, Q = 12 gives the stage 1.2 on the first, a shift of
+// +0.2; at 12:00, h = 1.5, Q = 32 gives 1.6 on the second, +0.1 (by hand).
+func TestCheckGaugingsVisitAcrossBreak(t *testing.T) {
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	type part struct {
+		period int
+		time   time.Time
+		source string
+		shift  float64
+	}
+	for _, tc := range []struct {
+		name string
+		brk  time.Time
+		want []part
+	}{
+		{"break between the gaugings", at.Add(time.Hour), []part{{0, at, "g:2", 0.2}, {1, at.Add(2 * time.Hour), "g:3", 0.1}}},
+		{"break after both", at.Add(3 * time.Hour), []part{{0, at, "g:2", math.NaN()}}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			h := History{Periods: []Period{{Rating: linearRating("ten", 10)}, {From: tc.brk, Rating: linearRating("twenty", 20)}}}
+			gs := []Gauging{
+				{Time: at, Stage: 1.0, Discharge: 12, Quality: rating.Good, Source: "g:2"},
+				{Time: at.Add(2 * time.Hour), Stage: 1.5, Discharge: 32, Quality: rating.Good, Source: "g:3"},
+			}
+			c, err := compileHistory(t, h).CheckGaugings(gs, CheckOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(c.Visits) != len(tc.want) {
+				t.Fatalf("visits %+v, want %d", c.Visits, len(tc.want))
+			}
+			for k, w := range tc.want {
+				v := c.Visits[k]
+				p := v.Proposal
+				if v.Period != w.period || !v.Time.Equal(w.time) || !p.Time.Equal(w.time) || p.Source != w.source {
+					t.Errorf("visit %d: period %d at %v, proposal %+v; want period %d at %v from %s", k, v.Period, v.Time, p, w.period, w.time, w.source)
+				}
+				for _, i := range v.Gaugings {
+					if c.Gaugings[i].Period != v.Period {
+						t.Errorf("visit %d holds gauging %d of period %d", k, i, c.Gaugings[i].Period)
+					}
+				}
+				if !math.IsNaN(w.shift) && (len(p.Points) != 1 || math.Abs(p.Points[0].Shift-w.shift) > ratingTol) {
+					t.Errorf("visit %d: diagram %+v, want one point of shift %g", k, p.Points, w.shift)
+				}
+			}
+		})
+	}
+}
+
+// TestMessagesInOffset: the rater's and the check's warnings write times
+// in the offset asked for, as the reports do; the instants are the same.
+// 00:00 UTC on 3 June 2024 is 10:00 at +10:00 and 19:00 on 2 June at -05:00.
+func TestMessagesInOffset(t *testing.T) {
+	at := time.Date(2024, 6, 3, 0, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		offset time.Duration
+		when   string
+	}{
+		{0, "2024-06-03T00:00:00Z"},
+		{10 * time.Hour, "2024-06-03T10:00:00+10:00"},
+		{-5 * time.Hour, "2024-06-02T19:00:00-05:00"},
+	} {
+		t.Run(tc.when, func(t *testing.T) {
+			h := History{Periods: []Period{{From: at.Add(time.Hour), Rating: linearRating("q=10h", 10)}},
+				Shifts: []ShiftDiagram{{Time: at, Points: []ShiftPoint{{Stage: 1, Shift: 0.1}}}}, UTCOffset: tc.offset}
+			r := compileHistory(t, h)
+			c, err := r.CheckGaugings([]Gauging{{Time: at, Stage: 1, Discharge: 12, Source: "g:2"}}, CheckOptions{UTCOffset: tc.offset})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, want := range []string{"the shift diagram of " + tc.when + " is not used", "g:2: no rating is in force at " + tc.when} {
+				found := false
+				for _, w := range c.Warnings {
+					found = found || strings.HasPrefix(w, want)
+				}
+				if !found {
+					t.Errorf("no warning %q in %q", want, c.Warnings)
+				}
+			}
+		})
+	}
+}
+
+// TestCheckGaugingsNoShift: a gauging under a rating whose shift cannot be
+// measured is marked NoShift; a zero discharge where the rating has flow
+// is warned of. Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2 (Q = 2 at
+// 0.7 m, 3.92 at 0.9 m by hand, see TestCheckGaugings).
+func TestCheckGaugingsNoShift(t *testing.T) {
+	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2}
+	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	for _, tc := range []struct {
+		name    string
+		g       Gauging
+		noShift bool
+		warning string
+	}{
+		{"zero where the rating has flow", Gauging{Time: at, Stage: 0.9, Discharge: 0, Source: "g:2"}, true,
+			`g:2: zero discharge measured at gauge height 0.9, where the rating "r" gives 3.92: no shift can be measured`},
+		{"zero below e", Gauging{Time: at, Stage: 0.1, Discharge: 0, Source: "g:3"}, false, ""},
+		{"beyond the table", Gauging{Time: at, Stage: 1.0, Discharge: 9, Source: "g:4"}, true, "g:4: no shift: "},
+		{"measured", Gauging{Time: at, Stage: 0.9, Discharge: 4.5, Source: "g:5"}, false, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := compileHistory(t, History{Periods: []Period{{Rating: rt}}}).CheckGaugings([]Gauging{tc.g}, CheckOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if g := c.Gaugings[0]; g.NoShift != tc.noShift || g.NoShift != math.IsNaN(g.Shift) && g.Discharge > 0 {
+				t.Errorf("NoShift %v (shift %v), want %v", g.NoShift, g.Shift, tc.noShift)
+			}
+			found := false
+			for _, w := range c.Warnings {
+				found = found || tc.warning != "" && strings.HasPrefix(w, tc.warning)
+			}
+			if tc.warning != "" && !found {
+				t.Errorf("no warning %q in %q", tc.warning, c.Warnings)
+			}
+		})
+	}
+}
+
 // A visit whose two gaugings make a diagram falling faster than the stage
 // rises proposes none, with a warning.
 func TestCheckGaugingsRefusedProposal(t *testing.T) {
@@ -245,9 +373,10 @@ func TestCheckStatesHistory(t *testing.T) {
 // Rating (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2, extrapolation allowed:
 // above 0.7 Q = 2·((h − 0.2)/0.5)², carried on above 1.2, so at 1.4 m
 // Q = 2·(1.2/0.5)² = 11.52 (by hand); at 0.1 m (below e and below the
-// first row) Q = 0. The gauging at 0.1 m of 0.2 m³/s: the rating's stage
-// of 0.2 on its linear first interval Q = 4·(h − 0.2) is 0.25, a shift of
-// +0.15. The gauging at 0.9 m is in the table (rated 3.92, unmarked).
+// first row) Q = 0. The gauging at 0.1 m of 0.2 m³/s: the first interval
+// carries the law above down to e, so the rating's stage of 0.2 is
+// 0.2 + 0.5·√0.1 = 0.358113883 (by hand), a shift of +0.258113883. The
+// gauging at 0.9 m is in the table (rated 3.92, unmarked).
 func TestCheckGaugingsMarksLookups(t *testing.T) {
 	rt := &RatingTable{Name: "r", Points: []RatingPoint{{0.2, 0}, {0.7, 2}, {1.2, 8}}, HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true}
 	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
@@ -267,7 +396,7 @@ func TestCheckGaugingsMarksLookups(t *testing.T) {
 		warnContains string
 	}{
 		{11.52, Extrapolated, math.NaN(), "g:2: gauge height 1.4 is beyond the rows of the rating \"r\": rated by extrapolation"},
-		{0, ZeroFlow, 0.15, "g:3: gauge height 0.1 is at or below the zero-flow stage 0.2 of the rating \"r\": rated 0"},
+		{0, ZeroFlow, 0.5*math.Sqrt(0.1) + 0.1, "g:3: gauge height 0.1 is at or below the zero-flow stage 0.2 of the rating \"r\": rated 0"},
 		{3.92, InTable, math.NaN(), ""},
 	}
 	for i, w := range want {

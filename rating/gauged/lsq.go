@@ -254,7 +254,7 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 		}
 	}
 	f.finishLSQ(ssr)
-	f.finishCommon(gs, reasons, nil)
+	f.finishCommon(gs, opt.Selection, reasons, nil)
 	return f, nil
 }
 
@@ -803,9 +803,10 @@ func allZero(v []float64) bool {
 
 // finishCommon fills what both methods report: residuals of every
 // gauging, the tests of the relation, Johnson's check and warnings.
-// ranges, when not nil, are the exponents each control may take without a
-// warning (default ExponentRange of its kind).
-func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []ExponentBounds) {
+// sel is the selection the gaugings were fitted under, reasons why each
+// was left out. ranges, when not nil, are the exponents each control may
+// take without a warning (default ExponentRange of its kind).
+func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string, ranges []ExponentBounds) {
 	d := f.d
 	f.LowStage, f.HighStage, f.MaxDischarge = d.lo, d.hi, d.qmax
 	f.N = d.n()
@@ -851,7 +852,13 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
 		}
 	}
-	f.Warnings = append(f.Warnings, zeroFlowConflicts(gs, f.Rating.Controls[0].B, f.OffsetSource, f.Units)...)
+	var fitted []Gauging
+	for _, g := range gs {
+		if sel.Holds(g) {
+			fitted = append(fitted, g)
+		}
+	}
+	f.Warnings = append(f.Warnings, zeroFlowConflicts(fitted, f.Rating.Controls[0].B, f.OffsetSource, f.Units)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -862,14 +869,14 @@ func (f *ControlFit) finishCommon(gs []Gauging, reasons []string, ranges []Expon
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 }
 
-// zeroFlowConflicts returns a warning for each gauging that contradicts
-// the gauge height of zero flow e, the first control's offset (length
-// unit of u; source says where it came from, as "fitted"): zero
-// discharge measured above e, where the rating has flow, or discharge
-// measured at or below e, where it has none. A zero discharge counts as
-// above e only where the message would write the two heights apart
-// (ghDecimals); gaugings whose stage or discharge is
-// not a finite number are passed over.
+// zeroFlowConflicts returns a warning for each gauging of gs (those of the
+// fit: see finishCommon) that contradicts the gauge height of zero flow e,
+// the first control's offset (length unit of u; source says where it came
+// from, as "fitted"): zero discharge measured above e, where the rating
+// has flow, or discharge measured at or below e, where it has none. A zero
+// discharge counts as above e only where the message would write the two
+// heights apart (ghDecimals); gaugings whose stage or discharge is not a
+// finite number are passed over.
 func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units) []string {
 	L, Q := u.Length(), u.Discharge()
 	var out []string

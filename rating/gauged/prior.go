@@ -120,6 +120,8 @@ type HydraulicPriorOptions struct {
 	// OffsetFixed holds the offset of the fit at Offset (gauge height).
 	OffsetFixed bool
 	Offset      float64
+	// Units label the range in the prior's Source (default SI).
+	Units rating.Units
 }
 
 // ErrPrior is returned when a prior cannot be derived from a section.
@@ -226,8 +228,8 @@ func CrestPrior(crest rating.HydraulicCurve, from, to, cv float64) (ControlPrior
 		LogCoefficient: ParamPrior{Mean: lnA, SD: logSD(cv)},
 		Exponent:       ParamPrior{Mean: c, SD: HydraulicExponentSD},
 		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - z)},
-		Source: fmt.Sprintf("critical flow over the crest section from %.4g to %.4g (Q = %.4g·(h − %.4g)^%.3g, cv %.2g)",
-			from, to, math.Exp(lnA), b, c, cv),
+		Source: fmt.Sprintf("critical flow over the crest section from %.4g to %.4g %s (Q = %.4g·(h − %.4g)^%.3g, cv %.2g)",
+			from, to, crest.Options.Units.Length(), math.Exp(lnA), b, c, cv),
 	}, nil
 }
 

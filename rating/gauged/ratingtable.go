@@ -81,7 +81,7 @@ var (
 	ErrRatingNegative    = errors.New("discharge must not be negative")
 	ErrRatingStages      = errors.New("stages of a rating table must increase from row to row")
 	ErrRatingNotRising   = errors.New("discharge must rise with stage once it is above zero")
-	ErrZeroFlowAbove     = errors.New("the gauge height of zero flow is above a row with flow")
+	ErrZeroFlowAbove     = errors.New("the gauge height of zero flow is at or above a row with flow")
 	ErrBeyondTable       = errors.New("outside the rating table")
 	ErrNoCommonRange     = errors.New("the two ratings share no range of stage")
 	ErrRatingNoDischarge = errors.New("no stage of the rating carries this discharge")
@@ -177,14 +177,32 @@ func (t RatingTable) Compile() (*TableRating, error) {
 	for i := range r.iv {
 		h0, h1, q0, q1 := r.h[i], r.h[i+1], r.q[i], r.q[i+1]
 		if t.HasZeroFlow && t.ZeroFlow < h0 && q0 > 0 {
-			x0, x1 := math.Log(h0-t.ZeroFlow), math.Log(h1-t.ZeroFlow)
-			y0, y1 := math.Log(q0), math.Log(q1)
-			r.iv[i] = interval{log: true, x0: x0, y0: y0, b: (y1 - y0) / (x1 - x0)}
+			r.iv[i] = r.logLaw(i)
 			continue
 		}
 		r.iv[i] = interval{x0: h0, y0: q0, b: (q1 - q0) / (h1 - h0)}
 	}
+	// The stretch from a dry row at or below e up to the first row with
+	// flow: the next stretch's power law carried down to e, anchored at
+	// the first row with flow, so that the table's foot follows the
+	// control in (h − e) rather than a straight line to zero.
+	for i := range r.iv {
+		if !t.HasZeroFlow || r.q[i] != 0 || !(r.q[i+1] > 0) || r.h[i] > t.ZeroFlow || i+1 >= len(r.iv) {
+			continue
+		}
+		next := r.logLaw(i + 1)
+		r.iv[i] = interval{log: true, x0: next.x0, y0: next.y0, b: next.b}
+	}
 	return r, nil
+}
+
+// logLaw is the log-linear law in (h − e) through rows i and i+1, which
+// both carry flow above e.
+func (r *TableRating) logLaw(i int) interval {
+	e := r.table.ZeroFlow
+	x0, x1 := math.Log(r.h[i]-e), math.Log(r.h[i+1]-e)
+	y0, y1 := math.Log(r.q[i]), math.Log(r.q[i+1])
+	return interval{log: true, x0: x0, y0: y0, b: (y1 - y0) / (x1 - x0)}
 }
 
 // Name returns the rating's name.
@@ -215,8 +233,15 @@ func (r *TableRating) eval(i int, h float64) float64 {
 //
 //	Q = Qᵢ·((h − e)/(hᵢ − e))^bᵢ,   bᵢ = ln(Qᵢ₊₁/Qᵢ) / ln((hᵢ₊₁ − e)/(hᵢ − e)),
 //
-// as expanded agency ratings are, and linearly otherwise. At or below e the
-// discharge is zero (ZeroFlow). Outside the table the discharge is NaN
+// as expanded agency ratings are, and linearly otherwise. Between a row
+// without flow at or below e and the first row with flow (stage h₁,
+// discharge Q₁) the exponent of the stretch above is carried down,
+//
+//	Q = Q₁·((h − e)/(h₁ − e))^b₁,
+//
+// so the foot of the table is log-linear in (h − e) too; a table with a
+// single row with flow has no such exponent and stays linear there. At or
+// below e the discharge is zero (ZeroFlow). Outside the table the discharge is NaN
 // (OutsideTable) unless the table allows extrapolation: then the end
 // interval's law is carried on (Extrapolated; never below zero).
 //

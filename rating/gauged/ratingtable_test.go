@@ -30,9 +30,10 @@ func compileRating(t *testing.T, rt RatingTable) *TableRating {
 //
 // Table (0.2, 0), (0.7, 2), (1.2, 8) with e = 0.2:
 //
-//	0.2 → 0.7: e is not below the row at 0.2, so linear: Q(0.45) = 0 + 2·0.25/0.5 = 1.
 //	0.7 → 1.2: log-linear in (h − e): b = ln(8/2)/ln(1.0/0.5) = ln 4/ln 2 = 2,
 //	           Q(0.95) = 2·(0.75/0.5)² = 2·2.25 = 4.5 (linear would give 5).
+//	0.2 → 0.7: the dry row is e itself, so the exponent above carries down:
+//	           Q(0.45) = 2·(0.25/0.5)² = 0.5 (linear, without e, gives 1).
 //	at or below e: Q = 0; above 1.2 with extrapolation, the last law:
 //	           Q(1.5) = 2·(1.3/0.5)² = 2·6.76 = 13.52.
 func TestRatingLogLinear(t *testing.T) {
@@ -48,7 +49,8 @@ func TestRatingLogLinear(t *testing.T) {
 	}{
 		{"log-linear", withE, 0.95, 4.5, InTable},
 		{"linear without e", noE, 0.95, 5, InTable},
-		{"linear where e is a row", withE, 0.45, 1, InTable},
+		{"foot log-linear where e is a row", withE, 0.45, 0.5, InTable},
+		{"foot linear without e", noE, 0.45, 1, InTable},
 		{"a row", withE, 0.7, 2, InTable},
 		{"last row", withE, 1.2, 8, InTable},
 		{"at e", withE, 0.2, 0, ZeroFlow},
@@ -64,8 +66,8 @@ func TestRatingLogLinear(t *testing.T) {
 			}
 		})
 	}
-	// The inverse: Stage(4.5) = 0.95 exactly as above; Stage(1) = 0.45.
-	for _, tc := range []struct{ q, h float64 }{{4.5, 0.95}, {1, 0.45}, {8, 1.2}, {2, 0.7}} {
+	// The inverse: Stage(4.5) = 0.95 exactly as above; Stage(0.5) = 0.45.
+	for _, tc := range []struct{ q, h float64 }{{4.5, 0.95}, {0.5, 0.45}, {8, 1.2}, {2, 0.7}} {
 		h, err := withE.Stage(tc.q)
 		if err != nil || math.Abs(h-tc.h) > ratingTol {
 			t.Errorf("Stage(%g) = %v, %v; want %v", tc.q, h, err, tc.h)
@@ -98,6 +100,52 @@ func TestRatingPowerLawExact(t *testing.T) {
 		if err != nil || math.Abs(back-h) > ratingTol {
 			t.Fatalf("Stage(Q(%g)) = %v, %v", h, back, err)
 		}
+	}
+}
+
+// TestRatingFootLogLinear checks the stretch from a dry row at or below e
+// to the first row with flow against the power law the table was laid out
+// from. Rows of Q = 8.264·(h − 0.3242)^2.1075 (closed form) above a dry row
+// at e, or below it, are read back on that law between the dry row and the
+// first row with flow, since the law's exponent is the one of the stretch
+// above; a single row with flow leaves no exponent and the stretch linear.
+func TestRatingFootLogLinear(t *testing.T) {
+	const e, c, b = 0.3242, 8.264, 2.1075
+	law := func(h float64) float64 { return c * math.Pow(h-e, b) }
+	rows := func(dry float64, hs ...float64) []RatingPoint {
+		pts := []RatingPoint{{dry, 0}}
+		for _, h := range hs {
+			pts = append(pts, RatingPoint{h, law(h)})
+		}
+		return pts
+	}
+	linear := func(h0, h1, h float64) float64 { return law(h1) * (h - h0) / (h1 - h0) }
+	for _, tc := range []struct {
+		name string
+		rt   RatingTable
+		h, q float64
+		how  Lookup
+	}{
+		{"dry row at e", RatingTable{Points: rows(e, 0.4, 0.46, 0.5), HasZeroFlow: true, ZeroFlow: e}, 0.33, law(0.33), InTable},
+		{"dry row at e, near the first row", RatingTable{Points: rows(e, 0.4, 0.46), HasZeroFlow: true, ZeroFlow: e}, 0.39, law(0.39), InTable},
+		{"dry row below e", RatingTable{Points: rows(0.3, 0.4, 0.46), HasZeroFlow: true, ZeroFlow: e}, 0.36, law(0.36), InTable},
+		{"between the dry row and e", RatingTable{Points: rows(0.3, 0.4, 0.46), HasZeroFlow: true, ZeroFlow: e}, 0.31, 0, ZeroFlow},
+		{"two dry rows", RatingTable{Points: append([]RatingPoint{{0.2, 0}}, rows(0.3, 0.4, 0.46)...), HasZeroFlow: true, ZeroFlow: e}, 0.35, law(0.35), InTable},
+		{"e not known", RatingTable{Points: rows(e, 0.4, 0.46)}, 0.33, linear(e, 0.4, 0.33), InTable},
+		{"one row with flow", RatingTable{Points: rows(e, 0.4), HasZeroFlow: true, ZeroFlow: e}, 0.33, linear(e, 0.4, 0.33), InTable},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			r := compileRating(t, tc.rt)
+			q, how := r.Discharge(tc.h)
+			if how != tc.how || math.Abs(q-tc.q) > ratingTol*math.Max(1, tc.q) || tc.q > 0 && math.Abs(q/tc.q-1) > ratingTol {
+				t.Fatalf("Discharge(%g) = %v, %v; want %v, %v", tc.h, q, how, tc.q, tc.how)
+			}
+			if q > 0 {
+				if back, err := r.Stage(q); err != nil || math.Abs(back-tc.h) > ratingTol {
+					t.Errorf("Stage(%g) = %v, %v; want %g", q, back, err, tc.h)
+				}
+			}
+		})
 	}
 }
 

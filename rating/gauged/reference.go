@@ -206,8 +206,8 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 		LogCoefficient: ParamPrior{Mean: lnA, SD: sdA},
 		Exponent:       ParamPrior{Mean: cc, SD: HydraulicExponentSD},
 		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - bottom)},
-		Source: fmt.Sprintf("%s from %.4g to %.4g (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
-			what, from, to, math.Exp(lnA), depthAbove(b), cc, ncv, scv),
+		Source: fmt.Sprintf("%s from %.4g to %.4g %s (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
+			what, from, to, opt.Units.Length(), math.Exp(lnA), depthAbove(b), cc, ncv, scv),
 	}, nil
 }
 

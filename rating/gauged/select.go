@@ -56,6 +56,21 @@ func (s Selection) Reason(g Gauging) string {
 	return ""
 }
 
+// Holds reports whether g is of the fit's gaugings whatever its
+// discharge: not excluded by its own Exclude text or by time, and inside
+// the rating period. A gauging of zero discharge that Holds is left out of
+// the fit in ln Q but still speaks of the rating's zero flow.
+func (s Selection) Holds(g Gauging) bool {
+	switch r := s.Reason(g); r {
+	case "":
+		return true
+	case ReasonZeroDischarge:
+		g.Discharge = 1 // any flow: the reasons that follow zero discharge
+		return s.Reason(g) == ""
+	}
+	return false
+}
+
 // hasText reports a string with other than white space.
 func hasText(s string) bool { return strings.TrimSpace(s) != "" }
 

@@ -229,8 +229,8 @@ func DiagramsFromRows(rows []ShiftRow) ([]ShiftDiagram, error) {
 			end++
 		}
 		if start > 0 && !rows[start].Time.After(rows[start-1].Time) {
-			errs = append(errs, &ShiftRowError{Row: start, Field: "time", Err: fmt.Errorf("%w: %s is not after the diagram of row %d (%s)",
-				ErrShiftTime, rows[start].Time.Format(time.RFC3339), start, rows[start-1].Time.Format(time.RFC3339))})
+			errs = append(errs, &ShiftRowError{Row: start, Field: "time", Err: fmt.Errorf("%w: %s is not after the diagram before it (%s)",
+				ErrShiftTime, rows[start].Time.Format(time.RFC3339), rows[start-1].Time.Format(time.RFC3339))})
 		}
 		d, err := diagramOf(rows, start, end)
 		if err != nil {
@@ -252,7 +252,11 @@ func diagramOf(rows []ShiftRow, start, end int) (ShiftDiagram, error) {
 		r := rows[i]
 		if r.HasTaper {
 			if taperRow >= 0 && r.Taper != d.Taper {
-				return d, &ShiftRowError{Row: i, Field: "taper", Err: fmt.Errorf("%w: taper %g, row %d says %g", ErrShiftConflict, r.Taper, taperRow+1, d.Taper)}
+				other := fmt.Sprintf("the row at stage %g", rows[taperRow].Stage)
+				if math.IsNaN(rows[taperRow].Stage) {
+					other = "an earlier row"
+				}
+				return d, &ShiftRowError{Row: i, Field: "taper", Err: fmt.Errorf("%w: taper %g, %s says %g", ErrShiftConflict, r.Taper, other, d.Taper)}
 			}
 			if taperRow < 0 {
 				taperRow, d.HasTaper, d.Taper = i, true, r.Taper

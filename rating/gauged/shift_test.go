@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 	"time"
 )
@@ -127,20 +128,27 @@ func TestDiagramsFromRows(t *testing.T) {
 		row   int
 		field string
 		is    error
+		says  string // in the message, naming the other row by what it holds ("" not checked)
 	}{
-		{"steep", []ShiftRow{{Time: march(1), Stage: 0.5, Shift: 0.3}, {Time: march(1), Stage: 0.7, Shift: 0.05}}, 1, "shift", ErrShiftSlope},
-		{"steep unsorted", []ShiftRow{{Time: march(1), Stage: 0.7, Shift: 0.05}, {Time: march(1), Stage: 0.5, Shift: 0.3}}, 0, "shift", ErrShiftSlope},
-		{"taper steep", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.5}, {Time: march(1), Stage: 0.5, Shift: 0.5, HasTaper: true, Taper: 1.25}}, 1, "taper", ErrShiftSlope},
-		{"taper conflict", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.1, HasTaper: true, Taper: 2}, {Time: march(1), Stage: 0.5, Shift: 0.1, HasTaper: true, Taper: 3}}, 1, "taper", ErrShiftConflict},
-		{"time order", []ShiftRow{{Time: march(5), Stage: 1, Shift: 0.1}, {Time: march(2), Stage: 1, Shift: 0.1}}, 1, "time", ErrShiftTime},
-		{"time again", []ShiftRow{{Time: march(2), Stage: 1, Shift: 0.1}, {Time: march(5), Stage: 1, Shift: 0.1}, {Time: march(2), Stage: 2, Shift: 0.1}}, 2, "time", ErrShiftTime},
-		{"same stage", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.1}, {Time: march(1), Stage: 1, Shift: 0.2}}, 1, "stage", ErrShiftStages},
+		{"steep", []ShiftRow{{Time: march(1), Stage: 0.5, Shift: 0.3}, {Time: march(1), Stage: 0.7, Shift: 0.05}}, 1, "shift", ErrShiftSlope, ""},
+		{"steep unsorted", []ShiftRow{{Time: march(1), Stage: 0.7, Shift: 0.05}, {Time: march(1), Stage: 0.5, Shift: 0.3}}, 0, "shift", ErrShiftSlope, ""},
+		{"taper steep", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.5}, {Time: march(1), Stage: 0.5, Shift: 0.5, HasTaper: true, Taper: 1.25}}, 1, "taper", ErrShiftSlope, ""},
+		{"taper conflict", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.1, HasTaper: true, Taper: 2}, {Time: march(1), Stage: 0.5, Shift: 0.1, HasTaper: true, Taper: 3}}, 1, "taper", ErrShiftConflict,
+			"taper 3, the row at stage 1 says 2"},
+		{"time order", []ShiftRow{{Time: march(5), Stage: 1, Shift: 0.1}, {Time: march(2), Stage: 1, Shift: 0.1}}, 1, "time", ErrShiftTime,
+			"is not after the diagram before it (" + march(5).Format(time.RFC3339) + ")"},
+		{"time again", []ShiftRow{{Time: march(2), Stage: 1, Shift: 0.1}, {Time: march(5), Stage: 1, Shift: 0.1}, {Time: march(2), Stage: 2, Shift: 0.1}}, 2, "time", ErrShiftTime,
+			"is not after the diagram before it (" + march(5).Format(time.RFC3339) + ")"},
+		{"same stage", []ShiftRow{{Time: march(1), Stage: 1, Shift: 0.1}, {Time: march(1), Stage: 1, Shift: 0.2}}, 1, "stage", ErrShiftStages, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := DiagramsFromRows(tc.rows)
 			var re *ShiftRowError
 			if !errors.Is(err, tc.is) || !errors.As(err, &re) || re.Row != tc.row || re.Field != tc.field {
 				t.Errorf("error %v, want %v at row %d field %s", err, tc.is, tc.row, tc.field)
+			}
+			if tc.says != "" && (err == nil || !strings.Contains(err.Error(), tc.says)) {
+				t.Errorf("error %v does not say %q", err, tc.says)
 			}
 		})
 	}

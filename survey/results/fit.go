@@ -744,7 +744,7 @@ func fixedOrBlank(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
 	}
-	return fmt.Sprintf("%.*f", n, v)
+	return unsignedZero(fmt.Sprintf("%.*f", n, v))
 }
 
 func fitStar(b bool) string {

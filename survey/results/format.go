@@ -139,15 +139,25 @@ func sig(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
-	return fmt.Sprintf("%.*g", n, v)
+	return unsignedZero(fmt.Sprintf("%.*g", n, v))
 }
 
-// fixed formats v with n decimals, "-" when undefined.
+// fixed formats v with n decimals, "-" when undefined; a value that rounds
+// to zero is written without a sign (0.000, not -0.000).
 func fixed(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
-	return fmt.Sprintf("%.*f", n, v)
+	return unsignedZero(fmt.Sprintf("%.*f", n, v))
+}
+
+// unsignedZero drops the minus sign of a formatted number whose digits are
+// all zero ("-0.000" from a small negative value, or "-0").
+func unsignedZero(s string) string {
+	if strings.HasPrefix(s, "-") && strings.Trim(s[1:], "0.") == "" {
+		return s[1:]
+	}
+	return s
 }
 
 // nonNil returns s, or an empty list for nil (JSON [] rather than null).

@@ -21,10 +21,21 @@ func ShiftGaugingColumns() []string {
 		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source", "flags"}
 }
 
-// gaugingFlags marks a gauging rated by extrapolation beyond its rating's
-// rows, or at or below the zero-flow stage, on the base or the shifted
-// rating, with the record's flags.
-func gaugingFlags(g gauged.GaugingShift) record.Flag {
+// noShiftFlag is the flag of a gauging whose shift could not be measured
+// on the rating in force (gauged.GaugingShift.NoShift).
+const noShiftFlag = "no_shift"
+
+// flagList is a gauging's flags, written space-separated.
+type flagList []string
+
+func (l flagList) String() string { return strings.Join(l, " ") }
+
+// gaugingFlags marks a gauging, with the record's flags, rated by
+// extrapolation beyond its rating's rows or at or below the zero-flow
+// stage (on the base or the shifted rating), at a gauge height outside the
+// rating, or under no rating; then no_shift when its shift could not be
+// measured. Each is warned of when the gaugings are checked.
+func gaugingFlags(g gauged.GaugingShift) flagList {
 	var f record.Flag
 	if g.Lookup == gauged.Extrapolated || g.ShiftedLookup == gauged.Extrapolated {
 		f |= record.Extrapolated
@@ -32,7 +43,17 @@ func gaugingFlags(g gauged.GaugingShift) record.Flag {
 	if g.Lookup == gauged.ZeroFlow || g.ShiftedLookup == gauged.ZeroFlow {
 		f |= record.BelowZeroFlow
 	}
-	return f
+	if g.Lookup == gauged.OutsideTable {
+		f |= record.OutsideRating
+	}
+	if g.Lookup == gauged.NoRating {
+		f |= record.NoRating
+	}
+	l := flagList(f.Words())
+	if g.NoShift {
+		l = append(l, noShiftFlag)
+	}
+	return l
 }
 
 // shiftInfoOf lays out a check's periods and diagrams.
@@ -46,9 +67,9 @@ func shiftInfoOf(c *gauged.ShiftCheck) ([]periodInfo, []shiftInfo) {
 // whether it lies outside the gauging's quality band; the measured shift,
 // the shift the diagrams apply and the residual between them; the
 // discharge of the shifted rating and the departure from it; the visit
-// (1-based); the flags (extrapolated, below_zero_flow: how the base or the
-// shifted rating found its discharge), space-separated. Times are ISO 8601 with the check's offset; undefined values
-// are empty cells.
+// (1-based); the flags (gaugingFlags: extrapolated, below_zero_flow,
+// outside_rating, no_rating, no_shift), space-separated. Times are ISO
+// 8601 with the check's offset; undefined values are empty cells.
 func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 	bw := bufio.NewWriter(w)
 	z := zoneOf(c.UTCOffset)
@@ -150,7 +171,7 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
 			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
 			Residual: Float(g.Residual), Shifted: Float(g.Shifted), ShiftedDeparture: Float(g.ShiftedDeparture), OutsideShifted: g.OutsideShifted,
-			Visit: visit[i] + 1, Source: g.Source, Flags: append([]string{}, strings.Fields(gaugingFlags(g).String())...)}
+			Visit: visit[i] + 1, Source: g.Source, Flags: append([]string{}, gaugingFlags(g)...)}
 		if g.Period >= 0 {
 			p := g.Period + 1
 			jg.RatingPeriod = &p
