@@ -5,6 +5,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -216,14 +217,17 @@ func TestCompareRefusals(t *testing.T) {
 // TestTooFineStep: a --step laying out more than rating.MaxStages stages
 // (a million) is a usage error naming --step with its unit, in every
 // command that takes one. 1e-9 m over any of these ranges (about 3 m of
-// rating table, 4.5 m of section) gives billions.
+// rating table, 4.5 m of section) gives billions; 0.0001 m over rate's
+// 200 m gives two million.
 func TestTooFineStep(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
 		name string
 		args []string
 	}{
-		{"rate", []string{"rate", fitDemoSurvey, "--slope", "0.001", "--step", "1e-9"}},
+		// rate refuses a step finer than its table is written (0.0001)
+		// before counting stages, so its range is made wide instead.
+		{"rate", []string{"rate", fitDemoSurvey, "--slope", "0.001", "--from", "100", "--to", "300", "--step", "0.0001"}},
 		{"compare ratings", []string{"compare", recRatingA, recRatingB, "--step", "1e-9"}},
 		{"compare surveys", []string{"compare", fitDemoSurvey, fitDemoSurvey, "--step", "1e-9"}},
 		{"fit", []string{"fit", fitDemoGaugings, "--method", "lsq", "--step", "1e-9"}},
@@ -232,7 +236,8 @@ func TestTooFineStep(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			_, errs, code := runCLI(t, tc.args...)
-			want := tc.args[0] + ": --step 1e-09 m: "
+			step, _ := strconv.ParseFloat(tc.args[len(tc.args)-1], 64)
+			want := tc.args[0] + ": --step " + strconv.FormatFloat(step, 'g', -1, 64) + " m: "
 			if code != 2 || !strings.Contains(errs, want) || !strings.Contains(errs, "is more than 1000000") {
 				t.Errorf("exit %d, stderr %q; want 2 and %q", code, errs, want)
 			}
