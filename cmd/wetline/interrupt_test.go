@@ -170,8 +170,11 @@ func TestInterruptLeavesNoPartialFile(t *testing.T) {
 					t.Fatal(err)
 				}
 			}
-			cmd, stderr, _ := startProgram(t, "stall", out)
+			// Count the folder before the program starts: counted after, a
+			// temporary file made first would be counted, and its making
+			// never seen.
 			before := len(names(dir))
+			cmd, stderr, _ := startProgram(t, "stall", out)
 			waitFor(t, cmd, "started writing", func() bool { return len(names(dir)) > before })
 			interrupt(t, cmd, stderr, sig)
 			want := "[]"
