@@ -21,7 +21,7 @@ import (
 const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S | --hydraulic-rating TABLE] [--datum D] [--channel-only] [--compare-only] " +
 	"[--method bayes|lsq] [--controls N] [--breaks H1,H2] [--kinds K1,K2] [--joints J2] [--zero-flow auto|control|VALUE] " +
 	"[--control-section RIFFLE] [--n-cv CV] [--slope-cv CV] [--draws N] [--chains N] [--seed N] [--show-unconverged] " +
-	"[--exclude TIME,...] [--period FROM..TO] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--exclude TIME,...] [--period FROM..TO] [--utc-offset ±HH:MM] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
 
 // Defaults of the fit command's Bayesian flags.
 const (
@@ -56,6 +56,7 @@ type fitFlags struct {
 	showUnconverged bool
 	exclude         string
 	period          string
+	offset          utcOffset
 	to, step        float64
 	format          string
 	output          string
@@ -88,6 +89,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
 	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file)")
 	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
+	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day; default UTC)")
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)
@@ -145,7 +147,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if err != nil {
 		return nil, err
 	}
-	gs, err := survey.ReadGaugings(path, f.gaugingSheet)
+	gs, err := survey.ReadGaugingsAt(path, f.gaugingSheet, time.Duration(f.offset))
 	if err != nil {
 		return nil, err
 	}
@@ -520,13 +522,24 @@ func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
 		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
 }
 
+// parseTime reads a time of --period or --exclude: ISO 8601, a time
+// written without an offset taken at --utc-offset (UTC by default), as the
+// gaugings' times are.
+func (f *fitFlags) parseTime(s string) (time.Time, error) {
+	s = strings.TrimSpace(s)
+	if f.offset == 0 {
+		return survey.ParseTime(s, false, false)
+	}
+	return survey.ParseISOTime(s, time.Duration(f.offset))
+}
+
 // selection reads --exclude and --period; given says --period was on the
 // command line, where an empty value is refused.
 func (f *fitFlags) selection(given bool) (gauged.Selection, error) {
 	var sel gauged.Selection
 	if f.exclude != "" {
 		for _, s := range strings.Split(f.exclude, ",") {
-			t, err := survey.ParseTime(s, false, false)
+			t, err := f.parseTime(s)
 			if err != nil {
 				return sel, usagef("fit: --exclude %q: %v", strings.TrimSpace(s), err)
 			}
@@ -548,12 +561,12 @@ func (f *fitFlags) selection(given bool) (gauged.Selection, error) {
 	}
 	var err error
 	if s := strings.TrimSpace(from); s != "" {
-		if sel.From, err = survey.ParseTime(s, false, false); err != nil {
+		if sel.From, err = f.parseTime(s); err != nil {
 			return sel, usagef("fit: --period from %q: %v", s, err)
 		}
 	}
 	if s := strings.TrimSpace(to); s != "" {
-		if sel.To, err = survey.ParseTime(s, false, false); err != nil {
+		if sel.To, err = f.parseTime(s); err != nil {
 			return sel, usagef("fit: --period to %q: %v", s, err)
 		}
 		if len(s) == len(time.DateOnly) {

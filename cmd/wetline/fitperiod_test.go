@@ -3,6 +3,7 @@ package main
 import (
 	"strings"
 	"testing"
+	"time"
 )
 
 // An empty --period, one holding none of the gaugings (for a fit or a
@@ -38,5 +39,53 @@ func TestFitPeriodFlag(t *testing.T) {
 				t.Errorf("exit %d (want %d), stderr %q, want %q", code, tc.code, errs, tc.want)
 			}
 		})
+	}
+}
+
+// --utc-offset places the times of --period and --exclude written without
+// an offset, as those of the gaugings: a date is then the local day. At
+// +10:00, the local day 2025-07-31 runs from 2025-07-30T14:00Z up to
+// 2025-07-31T14:00Z, and 09:00 local is 23:00Z the day before.
+func TestFitSelectionOffset(t *testing.T) {
+	t.Parallel()
+	utc := func(s string) time.Time {
+		v, err := time.Parse(time.RFC3339Nano, s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	for _, tc := range []struct {
+		name     string
+		offset   time.Duration
+		from, to string
+		exclude  string
+	}{
+		{"UTC", 0, "2025-07-31T00:00:00Z", "2025-07-31T23:59:59.999999999Z", "2025-07-31T09:00:00Z"},
+		{"ten hours east", 10 * time.Hour, "2025-07-30T14:00:00Z", "2025-07-31T13:59:59.999999999Z", "2025-07-30T23:00:00Z"},
+		{"five and a half west", -(5*time.Hour + 30*time.Minute), "2025-07-31T05:30:00Z", "2025-08-01T05:29:59.999999999Z", "2025-07-31T14:30:00Z"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f := &fitFlags{period: "2025-07-31..2025-07-31", exclude: "2025-07-31T09:00", offset: utcOffset(tc.offset)}
+			sel, err := f.selection(true)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !sel.From.Equal(utc(tc.from)) || !sel.To.Equal(utc(tc.to)) {
+				t.Errorf("period %v to %v, want %s to %s", sel.From, sel.To, tc.from, tc.to)
+			}
+			if len(sel.Exclude) != 1 || !sel.Exclude[0].Equal(utc(tc.exclude)) {
+				t.Errorf("exclude %v, want %s", sel.Exclude, tc.exclude)
+			}
+		})
+	}
+}
+
+// fit --utc-offset: a malformed offset is a usage error naming the flag.
+func TestFitOffsetFlag(t *testing.T) {
+	t.Parallel()
+	_, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--utc-offset", "ten")
+	if code != 2 || !strings.Contains(errs, "utc-offset") {
+		t.Errorf("exit %d, stderr %q; want 2 naming --utc-offset", code, errs)
 	}
 }
