@@ -19,6 +19,11 @@ var (
 	// ErrNotRegular: the destination exists and is not a regular file (a
 	// device, a pipe, a socket, or a link to one).
 	ErrNotRegular = errors.New("not a regular file: refusing to write there (write to standard output with -o - instead)")
+	// ErrStream: the destination names one of the process's streams or
+	// open files (/dev/stdout, /dev/fd/N, /proc/self/fd/N, or a link to
+	// one). Renaming onto it would replace the file the stream is
+	// redirected to, whole, instead of writing through the stream.
+	ErrStream = errors.New("names a stream of the process (such as /dev/stdout): refusing to write there (write to standard output with -o - instead)")
 	// ErrFolder: the destination of a file is a folder.
 	ErrFolder = errors.New("is a folder: give a file name")
 	// ErrReadOnly: the destination is a read-only file.
@@ -98,6 +103,9 @@ func destination(path string, inputs []string) (string, error) {
 			return fail(ferr)
 		}
 		if errors.Is(err, fs.ErrNotExist) {
+			if throughStream(path) {
+				return fail(ErrStream)
+			}
 			return path, nil
 		}
 		return fail(err)
@@ -107,6 +115,10 @@ func destination(path string, inputs []string) (string, error) {
 	if lst.Mode()&fs.ModeSymlink != 0 {
 		target, err := filepath.EvalSymlinks(path)
 		if err != nil {
+			if throughStream(path) {
+				// /dev/stdout when the output is a pipe or a terminal.
+				return fail(ErrStream)
+			}
 			return fail(fmt.Errorf("a link to nothing: %w", ErrNotRegular))
 		}
 		if st, err = os.Stat(target); err != nil {
@@ -121,8 +133,53 @@ func destination(path string, inputs []string) (string, error) {
 		return fail(ErrNotRegular)
 	case st.Mode().Perm()&0o200 == 0:
 		return fail(ErrReadOnly)
+	case throughStream(path):
+		// A regular file reached through /dev/stdout or the like: the
+		// file the process's output is redirected to.
+		return fail(ErrStream)
 	}
 	return dest, nil
+}
+
+// throughStream reports whether path, or a link on the way from it to the
+// file it names, lies in a device or process folder (/dev, /proc), where
+// /dev/stdout and /proc/self/fd/1 name whatever the process's output is:
+// a terminal, a pipe, or a regular file it was redirected to.
+func throughStream(path string) bool {
+	special := func(p string) bool {
+		abs, err := filepath.Abs(p)
+		if err != nil {
+			return false
+		}
+		for _, root := range []string{"/dev", "/proc"} {
+			if abs == root || strings.HasPrefix(abs, root+"/") {
+				return true
+			}
+		}
+		return false
+	}
+	p := path
+	for hop := 0; hop < 40; hop++ {
+		if special(p) {
+			return true
+		}
+		if dir, err := filepath.EvalSymlinks(filepath.Dir(p)); err == nil && special(dir) {
+			return true
+		}
+		st, err := os.Lstat(p)
+		if err != nil || st.Mode()&fs.ModeSymlink == 0 {
+			return false
+		}
+		target, err := os.Readlink(p)
+		if err != nil {
+			return false
+		}
+		if !filepath.IsAbs(target) {
+			target = filepath.Join(filepath.Dir(p), target)
+		}
+		p = target
+	}
+	return false
 }
 
 // checkFolder accepts a folder that exists, or a path none of whose

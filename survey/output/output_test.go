@@ -5,6 +5,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -319,5 +320,54 @@ func TestWrittenTwice(t *testing.T) {
 	}
 	if err := f.Write(out, text("2")); !errors.Is(err, ErrTwice) {
 		t.Errorf("second write of one file: %v, want ErrTwice", err)
+	}
+}
+
+// A path naming one of the process's streams or open files (/dev/stdout,
+// /dev/fd/N, /proc/self/fd/N, or a link to one) is refused even when the
+// stream is redirected to a regular file: renaming onto it would replace
+// that file whole (a log appended to with >>) instead of writing through
+// the stream. The file is left as it was.
+func TestStreamDestinations(t *testing.T) {
+	dir := t.TempDir()
+	logPath := filepath.Join(dir, "log.txt")
+	if err := os.WriteFile(logPath, []byte("precious\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	lf, err := os.OpenFile(logPath, os.O_WRONLY|os.O_APPEND, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer lf.Close()
+	fd := strconv.Itoa(int(lf.Fd()))
+	var outs []string
+	for _, p := range []string{"/proc/self/fd/" + fd, "/dev/fd/" + fd} {
+		if st, err := os.Stat(p); err == nil && st.Mode().IsRegular() {
+			outs = append(outs, p)
+		}
+	}
+	if len(outs) == 0 {
+		t.Skip("no /proc/self/fd or /dev/fd on this system")
+	}
+	link := filepath.Join(dir, "out.csv")
+	if err := os.Symlink(outs[0], link); err != nil {
+		t.Skip("symbolic links not available:", err)
+	}
+	outs = append(outs, link, "/dev/new-output.csv")
+	for _, out := range outs {
+		f := New()
+		if err := f.Check(out); !errors.Is(err, ErrStream) {
+			t.Errorf("Check(%s) = %v, want ErrStream", out, err)
+		}
+		if err := f.Write(out, text("overwritten")); !errors.Is(err, ErrStream) {
+			t.Errorf("Write(%s) = %v, want ErrStream", out, err)
+		}
+		f.Commit()
+	}
+	if b, _ := os.ReadFile(logPath); string(b) != "precious\n" {
+		t.Errorf("the redirected file holds %q, want it unchanged", b)
+	}
+	if _, err := os.Lstat(link); err != nil {
+		t.Errorf("the link was removed: %v", err)
 	}
 }
