@@ -68,7 +68,7 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	if err != nil {
 		return err
 	}
-	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where); err != nil {
+	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where, f.long); err != nil {
 		return err
 	}
 	note := "above"

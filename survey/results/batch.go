@@ -63,9 +63,9 @@ func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 }
 
 // LongRatingWriter writes the rating tables of many sections as one long
-// CSV table: a "section" column, then RatingColumns() and ExtraRatingColumns().
-// Per-subsection discharges are left out, as sections differ in their
-// subsections.
+// CSV table: a "section" column, then RatingColumns(), ExtraRatingColumns()
+// and the row flags ("flags", as in WriteRatingCSV). Per-subsection
+// discharges are left out, as sections differ in their subsections.
 type LongRatingWriter struct {
 	cw  *csv.Writer
 	rec []string
@@ -74,7 +74,7 @@ type LongRatingWriter struct {
 // NewLongRatingWriter writes the header row and returns the writer.
 func NewLongRatingWriter(w io.Writer) *LongRatingWriter {
 	l := &LongRatingWriter{cw: csv.NewWriter(w)}
-	cols := append(append([]string{"section"}, RatingColumns()...), ExtraRatingColumns()...)
+	cols := append(append(append([]string{"section"}, RatingColumns()...), ExtraRatingColumns()...), "flags")
 	l.cw.Write(cols)
 	l.rec = make([]string, len(cols))
 	return l
@@ -84,9 +84,11 @@ func NewLongRatingWriter(w io.Writer) *LongRatingWriter {
 func (l *LongRatingWriter) Write(section string, t rating.Table) error {
 	for _, r := range t.Rows {
 		l.rec[0] = section
-		for i, v := range append(mainValues(r), extraValues(r)...) {
+		vals := append(mainValues(r), extraValues(r)...)
+		for i, v := range vals {
 			l.rec[i+1] = FormatFloat(v)
 		}
+		l.rec[len(vals)+1] = strings.Join(r.Flags, " ")
 		if err := l.cw.Write(l.rec); err != nil {
 			return err
 		}

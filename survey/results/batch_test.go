@@ -38,7 +38,8 @@ func TestLongRatingWriter(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := rating.Compute(p, []float64{0, 1}, rating.Options{Slope: 0.001})
+	// Stage 3 is above both ends (at 2): its row is flagged above_end.
+	tab, err := rating.Compute(p, []float64{0, 1, 3}, rating.Options{Slope: 0.001})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -54,12 +55,13 @@ func TestLongRatingWriter(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(b.String()), "\n")
-	if len(lines) != 5 || !strings.HasPrefix(lines[0], "section,stage,depth,area,") ||
-		!strings.HasPrefix(lines[1], "\"a,b\",0,0,0,") || !strings.HasPrefix(lines[4], "c,1,1,1,") {
+	if len(lines) != 7 || !strings.HasPrefix(lines[0], "section,stage,depth,area,") || !strings.HasSuffix(lines[0], ",flags") ||
+		!strings.HasPrefix(lines[1], "\"a,b\",0,0,0,") || !strings.HasPrefix(lines[5], "c,1,1,1,") ||
+		!strings.HasSuffix(lines[3], ",above_end") || !strings.HasSuffix(lines[6], ",above_end") || !strings.HasSuffix(lines[2], ",") {
 		t.Errorf("long table:\n%s", b.String())
 	}
-	if n := strings.Count(lines[0], ","); n != len(RatingColumns())+len(ExtraRatingColumns()) {
-		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns())+len(ExtraRatingColumns()))
+	if n := strings.Count(lines[0], ","); n != len(RatingColumns())+len(ExtraRatingColumns())+1 {
+		t.Errorf("%d commas in the header, want %d", n, len(RatingColumns())+len(ExtraRatingColumns())+1)
 	}
 }
 
@@ -75,19 +77,31 @@ func TestBatchSummaryAndSkipped(t *testing.T) {
 	}
 	entries := []IndexEntry{entry("XS-1", "", ""), entry("XS-2", "", "blank"), entry("XS-3", "bad cell", "")}
 	var b strings.Builder
-	if err := WriteBatchSummary(&b, entries, "out"); err != nil {
+	if err := WriteBatchSummary(&b, entries, "out", false); err != nil {
 		t.Fatal(err)
 	}
 	want := "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
 	if b.String() != want {
 		t.Errorf("summary\n%s\nwant\n%s", b.String(), want)
 	}
+	// Without an index (one long table) the rated sections' warnings are
+	// listed, one a line; failed and skipped sections' are not.
+	b.Reset()
+	entries[0].Warnings = []string{"w1", "w2"}
+	if err := WriteBatchSummary(&b, entries, "out", true); err != nil {
+		t.Fatal(err)
+	}
+	want = "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nwarning: XS-1: w1\nwarning: XS-1: w2\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
+	if b.String() != want {
+		t.Errorf("summary with warnings\n%s\nwant\n%s", b.String(), want)
+	}
+	entries[0].Warnings = []string{"w"}
 	b.Reset()
 	var many []IndexEntry
 	for i := range MaxListed + 3 {
 		many = append(many, entry(fmt.Sprintf("s%d", i), "bad", ""))
 	}
-	if err := WriteBatchSummary(&b, many, "out"); err != nil {
+	if err := WriteBatchSummary(&b, many, "out", false); err != nil {
 		t.Fatal(err)
 	}
 	if n := strings.Count(b.String(), "failed: s"); n != MaxListed || !strings.Contains(b.String(), "failed: and 3 more\n") {

@@ -141,7 +141,9 @@ const MaxListed = 20
 
 // WriteBatchSummary says where a batch was written and lists the
 // sections that failed and those skipped (at most MaxListed of each).
-func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string) error {
+// With warnings (a batch written without an index, such as one long
+// table), the rated sections' warnings are listed too, at most MaxListed.
+func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings bool) error {
 	bw := bufio.NewWriter(w)
 	failed, skipped := 0, 0
 	for _, en := range entries {
@@ -157,7 +159,7 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string) error {
 		fmt.Fprintf(bw, "; %d skipped", skipped)
 	}
 	fmt.Fprintln(bw)
-	list := func(word string, note func(IndexEntry) string) {
+	list := func(word string, entries []IndexEntry, note func(IndexEntry) string) {
 		shown, more := 0, 0
 		for _, en := range entries {
 			switch n := note(en); {
@@ -173,8 +175,21 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string) error {
 			fmt.Fprintf(bw, "%s: and %d more\n", word, more)
 		}
 	}
-	list("failed", func(en IndexEntry) string { return en.Err })
-	list("skipped", func(en IndexEntry) string {
+	list("failed", entries, func(en IndexEntry) string { return en.Err })
+	if warnings {
+		// One entry a warning, so that each is a line of its own.
+		var ws []IndexEntry
+		for _, en := range entries {
+			if en.Err != "" || en.Skipped != "" {
+				continue
+			}
+			for _, wn := range en.Warnings {
+				ws = append(ws, IndexEntry{Section: en.Section, Warnings: []string{wn}})
+			}
+		}
+		list("warning", ws, func(en IndexEntry) string { return en.Warnings[0] })
+	}
+	list("skipped", entries, func(en IndexEntry) string {
 		if en.Err != "" {
 			return ""
 		}
