@@ -115,3 +115,40 @@ func TestBatchSummaryAndSkipped(t *testing.T) {
 		t.Errorf("index row %q, want %q", b.String(), want)
 	}
 }
+
+// Text tables and rating sheets show stages and depths to three decimals,
+// or to as many as the stages need (up to LengthDecimals, as the CSV
+// writes them), so that stages 0.0005 apart do not read alike.
+func TestStageDecimalsShown(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{
+		Points:    []subdivide.Point{{Station: 0, Elevation: 2}, {Station: 2, Elevation: 0}, {Station: 4, Elevation: 2}},
+		NByRegion: subdivide.PerRegion{Channel: 0.03},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		stages []float64
+		want   []string // the stages as the text table shows them
+		format string   // the rating sheet's stage format
+	}{
+		{[]float64{1, 1.1, 1.25}, []string{"1.000", "1.100", "1.250"}, "0.000"},
+		{[]float64{1, 1.0005, 1.001}, []string{"1.0000", "1.0005", "1.0010"}, "0.0000"},
+	} {
+		tab, err := rating.Compute(p, tc.stages, rating.Options{Slope: 0.001})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var b strings.Builder
+		writeMainColumnsText(&b, tab)
+		lines := strings.Split(strings.TrimSpace(b.String()), "\n")[2:]
+		for i, l := range lines {
+			if got := strings.Fields(l)[0]; got != tc.want[i] {
+				t.Errorf("stages %v row %d shows %q, want %q", tc.stages, i, got, tc.want[i])
+			}
+		}
+		if got := RatingSheetColumns(tab)[0].Format; got != tc.format {
+			t.Errorf("stages %v: sheet format %q, want %q", tc.stages, got, tc.format)
+		}
+	}
+}

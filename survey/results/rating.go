@@ -179,6 +179,17 @@ func ratingJSONRow(r rating.Row) jsonRow {
 // (RatingColumns()) aligned for a console, with their units under the
 // names and each row's flags at its end: depths and stages, α and the
 // Froude number to three decimals, the rest to four significant digits.
+// stageDecimals returns the decimals a table's stages and depths are shown
+// with in text and workbooks: three, or as many as the stages need (up to
+// LengthDecimals, as the CSV writes them) so that no two stages read alike.
+func stageDecimals(t rating.Table) int {
+	stages := make([]float64, len(t.Rows))
+	for i, r := range t.Rows {
+		stages[i] = r.Stage
+	}
+	return max(3, lengthDecimals(stages...))
+}
+
 func writeMainColumnsText(w io.Writer, t rating.Table) {
 	u := t.Units
 	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
@@ -193,13 +204,16 @@ func writeMainColumnsText(w io.Writer, t rating.Table) {
 	}
 	b.WriteByte('\n')
 	io.WriteString(w, b.String())
+	sd := stageDecimals(t)
 	for _, r := range t.Rows {
 		b.Reset()
 		for i, v := range mainValues(r) {
 			s := "-"
 			switch {
 			case math.IsNaN(v) || math.IsInf(v, 0):
-			case i <= 1 || i >= 9:
+			case i <= 1:
+				s = strconv.FormatFloat(v, 'f', sd, 64)
+			case i >= 9:
 				s = strconv.FormatFloat(v, 'f', 3, 64)
 			default:
 				s = strconv.FormatFloat(v, 'g', 4, 64)

@@ -98,9 +98,10 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 func RatingSheetColumns(t rating.Table) []workbook.Column {
 	u := t.Units
 	L, A, Q := u.Length(), u.Area(), u.Discharge()
+	sf := "0." + strings.Repeat("0", stageDecimals(t))
 	cols := []workbook.Column{
-		{Name: "stage", Unit: L, Format: "0.000"},
-		{Name: "depth", Unit: L, Format: "0.000"},
+		{Name: "stage", Unit: L, Format: sf},
+		{Name: "depth", Unit: L, Format: sf},
 		{Name: "area", Unit: A, Format: workbook.FormatSig3},
 		{Name: "wetted_perimeter", Unit: L, Format: "0.00"},
 		{Name: "top_width", Unit: L, Format: "0.00"},
