@@ -196,6 +196,9 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 				rt.HasHighGauging, rt.HighGauging = true, g.points[i].Stage
 			}
 		}
+		if !rt.HasHighGauging && len(g.points) > 0 {
+			*warn = append(*warn, fmt.Sprintf("%s: every row is marked extrapolated: no gauging supports the table anywhere, so treat all its discharges as extrapolated (results cannot flag them, as no highest gauging is known)", name))
+		}
 	}
 	err := rt.Validate()
 	var re *gauged.RatingError

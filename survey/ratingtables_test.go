@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"math"
 	"strconv"
 	"strings"
 	"testing"
@@ -201,5 +202,34 @@ func TestParseRatingTablesLongFormat(t *testing.T) {
 	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4}); !errors.Is(err, gauged.ErrPeriodOrder) ||
 		!strings.Contains(err.Error(), "r.csv:6:1") {
 		t.Errorf("a period come back: %v", err)
+	}
+}
+
+// A table whose every row is marked extrapolated rests on no gauging: its
+// highest gauging stays unknown, and the reader warns that all of it is
+// extrapolated. One row that is not marked sets the highest gauging.
+func TestRatingTableAllExtrapolated(t *testing.T) {
+	for _, tc := range []struct {
+		name, in string
+		high     float64 // NaN: not known
+		warned   bool
+	}{
+		{"every row", "stage,discharge,extrapolated\n0.5,1,yes\n1,3,yes\n2,9,yes\n", math.NaN(), true},
+		{"one row gauged", "stage,discharge,extrapolated\n0.5,1,no\n1,3,yes\n2,9,yes\n", 0.5, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rs, err := ParseRatingTables(strings.NewReader(tc.in), "r.csv", RatingTableOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			rt := rs.Periods[0].Rating
+			if known := !math.IsNaN(tc.high); rt.HasHighGauging != known || (known && rt.HighGauging != tc.high) {
+				t.Errorf("highest gauging %v %g, want %g", rt.HasHighGauging, rt.HighGauging, tc.high)
+			}
+			warned := strings.Contains(strings.Join(rs.Warnings, "\n"), "every row is marked extrapolated")
+			if warned != tc.warned {
+				t.Errorf("warnings %q, want the all-extrapolated warning: %v", rs.Warnings, tc.warned)
+			}
+		})
 	}
 }
