@@ -230,8 +230,10 @@ func ReachFromTable(t *Table) (*Reach, error) {
 }
 
 // ReachTable reads the rows of a reach table without reading the surveys.
-// Every bad cell is reported, each naming its row and column. Flow lengths
-// given at the last section are not used (a warning says so).
+// Every bad cell is reported, each naming its row and column; a distance
+// beyond ±MaxCoordinate, a flow length above MaxCoordinate or a high-water
+// mark beyond ±MaxElevation is refused as implausible (ErrImplausible).
+// Flow lengths given at the last section are not used (a warning says so).
 func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	r := &Reach{File: t.File, Sheet: t.Sheet, t: t, cols: map[string]int{}}
 	required := ReachColumns()[:5]
@@ -381,6 +383,8 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 		*errs = append(*errs, err.(*ParseError))
 	case !ok:
 		add(ReachColDistance, ErrDistanceBlank)
+	case math.Abs(d) > MaxCoordinate:
+		add(ReachColDistance, implausible("distance", d, MaxCoordinate))
 	default:
 		row.Distance = d
 		order.next(d, func(err error) *ParseError { return t.At(rec, r.cols[ReachColDistance], err) })
@@ -394,6 +398,9 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 		switch {
 		case err != nil:
 			*errs = append(*errs, err.(*ParseError))
+			marks++ // reported already
+		case ok && math.Abs(v) > MaxElevation:
+			add(c.name, implausible("high-water mark", v, MaxElevation))
 			marks++ // reported already
 		case ok:
 			*c.v = v
@@ -413,6 +420,8 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 			*errs = append(*errs, err.(*ParseError))
 		case ok && v < 0:
 			add(c.name, ErrFlowLengthValue)
+		case ok && v > MaxCoordinate:
+			add(c.name, fmt.Errorf("flow length %g %w (above %g)", v, ErrImplausible, float64(MaxCoordinate)))
 		case ok:
 			*c.v = v
 		}
@@ -423,6 +432,12 @@ func (r *Reach) readRow(rec Record, opt ReachOptions, ids map[string]bool, order
 		row.Quality = q
 	}
 	return row
+}
+
+// implausible is the cause of a refused value v of the quantity what,
+// beyond ±limit (wrapping ErrImplausible).
+func implausible(what string, v, limit float64) error {
+	return fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit)
 }
 
 // finite reports whether v is a number other than ±Inf.

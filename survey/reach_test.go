@@ -124,6 +124,10 @@ func TestReachErrors(t *testing.T) {
 		{"blank survey", head + "A,,0,10,,\n", ErrNoSurvey, "reach.csv:2:2"},
 		{"bad distance", head + "A,a.csv,zero,10,,\n", ErrNotNumber, "reach.csv:2:3"},
 		{"blank distance", head + "A,a.csv,,10,,\n", ErrDistanceBlank, "reach.csv:2:3"},
+		// Bounds: MaxCoordinate for distances, MaxElevation for marks.
+		{"huge distance", head + "A,a.csv,0,10,,\nB,a.csv,1e308,9,,\n", ErrImplausible, `reach.csv:3:3: distance "1e308": distance 1e+308 is not a plausible value (beyond ±1e+08)`},
+		{"huge negative distance", head + "A,a.csv,-1e9,10,,\nB,a.csv,0,9,,\n", ErrImplausible, "reach.csv:2:3"},
+		{"huge mark", head + "A,a.csv,0,10,,\nB,a.csv,5,,2e5,\n", ErrImplausible, `reach.csv:3:5: ws_right "2e5": high-water mark 200000 is not a plausible value (beyond ±100000)`},
 		{"distance not increasing", head + "A,a.csv,100,10,,\nB,a.csv,100,9,,\n", ErrDistanceOrder, "reach.csv:3:3"},
 		{"distance decreasing", head + "A,a.csv,100,10,,\nB,a.csv,50,9,,\n", ErrDistanceOrder, "reach.csv:3:3"},
 		{"no marks", head + "A,a.csv,0,,,\n", ErrNoHighWaterMark, "reach.csv:2:4"},
@@ -237,6 +241,7 @@ func FuzzReachFromTable(f *testing.F) {
 	f.Add([]byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,10,\nB,b.csv,5,9,9.1\n"))
 	f.Add([]byte("section,survey,distance,ws_left,ws_right,quality,note\nA,a,0,,1,poor,x\n"))
 	f.Add([]byte("\ufeffSection;Survey\n"))
+	f.Add([]byte("section,survey,distance,ws_left,ws_right\nA,a.csv,0,10,\nB,b.csv,1e308,9,1e300\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		tab, err := ParseCSV(bytes.NewReader(data), "fuzz.csv")
 		if err != nil {
@@ -258,6 +263,9 @@ func FuzzReachFromTable(f *testing.F) {
 			}
 			if math.IsNaN(row.WSLeft) && math.IsNaN(row.WSRight) {
 				t.Errorf("row %d: no marks accepted", i)
+			}
+			if math.Abs(row.Distance) > MaxCoordinate || math.Abs(row.WSLeft) > MaxElevation || math.Abs(row.WSRight) > MaxElevation {
+				t.Errorf("row %d: implausible distance %g or marks %g, %g accepted", i, row.Distance, row.WSLeft, row.WSRight)
 			}
 			if i > 0 && !(row.Distance > r.Rows[i-1].Distance) {
 				t.Errorf("row %d: distance %g after %g accepted", i, row.Distance, r.Rows[i-1].Distance)
@@ -363,6 +371,8 @@ func TestReachBackwaterErrors(t *testing.T) {
 		{"negative length", head + "A,a.csv,0,,-5,\nB,a.csv,10,,,\n", ErrFlowLengthValue, "reach.csv:2:5"},
 		{"zero length", head + "A,a.csv,0,,0,\nB,a.csv,10,,,\n", ErrFlowLengthValue, "reach.csv:2:5"},
 		{"zero length mid-reach", head + "A,a.csv,0,,10,\nB,a.csv,10,,0.0,\nC,a.csv,20,,,\n", ErrFlowLengthValue, "reach.csv:3:5"},
+		{"huge length", head + "A,a.csv,0,,1e308,\nB,a.csv,10,,,\n", ErrImplausible, `reach.csv:2:5: channel_length "1e308": flow length 1e+308 is not a plausible value (above 1e+08)`},
+		{"length just beyond the bound", head + "A,a.csv,0,,100000001,\nB,a.csv,10,,,\n", ErrImplausible, "reach.csv:2:5"},
 		{"length not a number", head + "A,a.csv,0,,far,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:5"},
 		{"bad mark", head + "A,a.csv,0,high,,\nB,a.csv,10,,,\n", ErrNotNumber, "reach.csv:2:4"},
 		{"distance order", head + "A,a.csv,10,,,\nB,a.csv,10,,,\n", ErrDistanceOrder, "reach.csv:3:3"},
@@ -497,6 +507,7 @@ func TestBoundaryRatingErrors(t *testing.T) {
 func FuzzReachTableBackwater(f *testing.F) {
 	f.Add([]byte("section,survey,distance,left_length,channel_length,right_length\nA,a,0,5,,7\nB,b,10,,,\n"))
 	f.Add([]byte("section,survey,distance,structure\nA,a,0,bridge\n"))
+	f.Add([]byte("section,survey,distance,left_length,channel_length,right_length\nA,a,0,1e308,1e300,7\nB,b,1e308,,,\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		tab, err := ParseCSV(bytes.NewReader(data), "fuzz.csv")
 		if err != nil {
@@ -511,9 +522,12 @@ func FuzzReachTableBackwater(f *testing.F) {
 		}
 		for i, row := range r.Rows {
 			for _, l := range []float64{row.LeftLength, row.ChannelLength, row.RightLength} {
-				if l < 0 || math.IsInf(l, 0) {
+				if l < 0 || l > MaxCoordinate {
 					t.Errorf("row %d: flow length %g accepted", i, l)
 				}
+			}
+			if math.Abs(row.Distance) > MaxCoordinate || math.Abs(row.WSLeft) > MaxElevation || math.Abs(row.WSRight) > MaxElevation {
+				t.Errorf("row %d: implausible distance %g or marks %g, %g accepted", i, row.Distance, row.WSLeft, row.WSRight)
 			}
 			if i > 0 && !(row.Distance > r.Rows[i-1].Distance) {
 				t.Errorf("row %d: distance %g after %g accepted", i, row.Distance, r.Rows[i-1].Distance)

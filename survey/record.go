@@ -87,8 +87,10 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 //
 // Times are ISO 8601 (see ParseISOTime), with or without an offset. Every
 // bad cell is reported with its position (file:row:column), at most
-// MaxReported of them: an unreadable time or stage, a time that repeats or
-// goes back (naming the row before). A row with a time and a blank stage
+// MaxReported of them: an unreadable time or stage, a stage beyond
+// ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
+// the row before). A header naming a column twice is refused
+// (ErrDuplicateColumn). A row with a time and a blank stage
 // is a missing reading: it is left out and counted in Blank.
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
@@ -219,6 +221,9 @@ func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, dat
 
 // setHeader finds the columns; sizeHint is the expected number of rows.
 func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
+	if err := duplicateColumn(b.file, b.sheet, h, row); err != nil {
+		return err
+	}
 	t := &Table{File: b.file, Sheet: b.sheet, Header: h, HeaderRow: row}
 	var err error
 	if b.ct, err = t.Require(ColRecordTime); err != nil {
@@ -289,6 +294,10 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 	h, err := parseDecimal(hs)
 	if err != nil {
 		b.fail(row, b.cs, hs, err)
+		return
+	}
+	if math.Abs(h) > MaxElevation {
+		b.fail(row, b.cs, hs, implausible("stage", h, MaxElevation))
 		return
 	}
 	var q uint16

@@ -34,6 +34,8 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,stage\n2024-05-01T00:00,1.2\n2024-05-01T00:15,1.3\n", int8(0))
 	f.Add("time,stage (ft)\n2024-05-01T00:00,1.2\n", int8(0))
 	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
+	f.Add("time,stage,stage\n2024-05-01T00:00,1.2,1.3\n", int8(0))
+	f.Add("time,stage\n2024-05-01T00:00,1e308\n2024-05-01T00:15,-9999\n", int8(0))
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
 		off := time.Duration(offsetHours%15) * time.Hour
 		r, err := ParseStageRecord(strings.NewReader(in), "f.csv", StageRecordOptions{UTCOffset: off})
@@ -43,6 +45,11 @@ func FuzzParseStageRecord(f *testing.F) {
 		}
 		if err := r.Stages.Validate(); err != nil {
 			t.Fatalf("record read is not valid: %v", err)
+		}
+		for i, h := range r.Stages.Stage {
+			if math.Abs(h) > MaxElevation {
+				t.Errorf("reading %d: implausible stage %g accepted", i, h)
+			}
 		}
 	})
 }

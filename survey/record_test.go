@@ -80,6 +80,10 @@ func TestParseStageRecordErrors(t *testing.T) {
 		{"no rows", head + "# nothing\n", []string{"no data rows"}, ErrEmpty},
 		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows"}, ErrEmpty},
 		{"bare quote", head + "2024-05-01,1\"2\n", []string{"s.csv:2:"}, csv.ErrBareQuote},
+		{"duplicate stage column", "time,stage,Stage (m)\n2024-05-01,1,2\n", []string{"s.csv:1:3", "the header names this column twice (also column 2)"}, ErrDuplicateColumn},
+		{"duplicate time column", "time,stage,time\n2024-05-01,1,2024-05-02\n", []string{"s.csv:1:3", "(also column 1)"}, ErrDuplicateColumn},
+		{"huge stage", head + "2024-05-01T00:00,1\n2024-05-01T00:15,1e308\n", []string{"s.csv:3:2", "stage 1e+308 is not a plausible value (beyond ±100000)"}, ErrImplausible},
+		{"huge negative stage", head + "2024-05-01T00:00,-100001\n", []string{"s.csv:2:2"}, ErrImplausible},
 		{"two bad rows", head + "x,1\n2024-05-01,y\n", []string{"s.csv:2:1", "s.csv:3:2"}, ErrISOTime},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -162,16 +162,25 @@ func (b *tableBuilder) header(rec []string, row int) error {
 		h = h[:len(h)-1]
 	}
 	b.t.Header, b.t.HeaderRow = h, row
+	return duplicateColumn(b.t.File, b.t.Sheet, h, row)
+}
+
+// duplicateColumn returns a ParseError (ErrDuplicateColumn) at the second
+// cell of header h (at the given row of file and sheet) whose name, as
+// columns are matched (see Table.Column), repeats an earlier one; blank
+// names are ignored. It returns nil when every name is distinct.
+func duplicateColumn(file, sheet string, h []string, row int) error {
 	seen := map[string]int{}
 	for i, name := range h {
-		if name == "" {
+		key := normName(name)
+		if key == "" {
 			continue
 		}
-		if j, dup := seen[normName(name)]; dup {
-			return &ParseError{File: b.t.File, Sheet: b.t.Sheet, Row: row, Column: i + 1, Name: name,
+		if j, dup := seen[key]; dup {
+			return &ParseError{File: file, Sheet: sheet, Row: row, Column: i + 1, Name: strings.TrimSpace(name),
 				Err: fmt.Errorf("%w (also column %d)", ErrDuplicateColumn, j+1)}
 		}
-		seen[normName(name)] = i
+		seen[key] = i
 	}
 	return nil
 }

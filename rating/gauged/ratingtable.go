@@ -215,6 +215,10 @@ func (r *TableRating) Table() RatingTable {
 	return t
 }
 
+// ZeroFlow returns the table's gauge height of zero flow (length unit) and
+// whether the table has one.
+func (r *TableRating) ZeroFlow() (float64, bool) { return r.table.ZeroFlow, r.table.HasZeroFlow }
+
 // Range returns the stages of the table's first and last rows.
 func (r *TableRating) Range() (lo, hi float64) { return r.h[0], r.h[len(r.h)-1] }
 

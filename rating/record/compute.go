@@ -260,11 +260,78 @@ func (res *Result) uses(r *gauged.Rater) {
 	res.Warnings = append(res.Warnings, r.Warnings...)
 }
 
+// lowReadings gathers the readings rated below their rating's gauge height
+// of zero flow, and those far below the rating table's lowest row: the
+// marks of a logger's missing-value code (such as -9999) read as a stage.
+type lowReadings struct {
+	below, far int     // readings below zero flow; far below the table
+	lowest     float64 // the lowest gauge height of those below zero flow
+	lowestAt   int64   // its time
+	farLowest  float64 // the lowest of those far below
+	farAt      int64   // its time
+	farTable   string  // the rating table of that reading
+	farFloor   float64 // its lowest row's stage
+	farRange   float64 // its stage range
+}
+
+// take counts reading h at time t, rated by v on the table rt (nil without a
+// rating). A reading is below zero flow when its effective gauge height is
+// strictly below the table's zero-flow stage (at it, zero flow is the true
+// discharge); it is far below when its effective gauge height lies below
+// the table's lowest row by more than the table's whole stage range (see
+// FarBelowTable).
+func (l *lowReadings) take(t int64, h float64, v gauged.Rated, rt *gauged.TableRating) {
+	if rt == nil {
+		return
+	}
+	if e, ok := rt.ZeroFlow(); ok && v.Lookup == gauged.ZeroFlow && v.Effective < e {
+		if l.below == 0 || h < l.lowest {
+			l.lowest, l.lowestAt = h, t
+		}
+		l.below++
+	}
+	lo, hi := rt.Range()
+	if span := hi - lo; v.Effective < lo-FarBelowTable*span {
+		if l.far == 0 || h < l.farLowest {
+			l.farLowest, l.farAt, l.farTable, l.farFloor, l.farRange = h, t, rt.Name(), lo, span
+		}
+		l.far++
+	}
+}
+
+// FarBelowTable is how many times its own stage range a reading must lie
+// below a rating table's lowest row to be called far below it. A rating
+// table spans the channel from its lowest rated water level to its highest;
+// water more than that whole span below the lowest row would lie deeper
+// below the channel's low point than the channel is deep, which no river
+// does: such a reading is almost surely a missing-value code or a sensor
+// fault (common practice: loggers write -9999 or -999 for no reading).
+const FarBelowTable = 1
+
+// warn words the warnings of the low readings among n, times in zone z.
+func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string {
+	at := func(t int64) string { return time.Unix(t, 0).In(z).Format(time.RFC3339) }
+	if l.below > 0 {
+		warnings = append(warnings, fmt.Sprintf("%d of %d readings lie below the gauge height of zero flow of their rating and are rated 0 "+
+			"(the lowest %g at %s): a reading far below zero flow may be a logger's missing-value code, which pulls daily means down; "+
+			"leave the stage of a missing reading blank", l.below, n, l.lowest, at(l.lowestAt)))
+	}
+	if l.far > 0 {
+		warnings = append(warnings, fmt.Sprintf("%d of %d readings lie below the lowest row of their rating table by more than the table's "+
+			"whole stage range (the lowest %g at %s, under %q whose rows span %g to %g): these are almost surely a missing-value code "+
+			"(such as -9999) or a sensor fault, not water levels; remove them or leave their stage blank",
+			l.far, n, l.farLowest, at(l.farAt), l.farTable, l.farFloor, l.farFloor+l.farRange))
+	}
+	return warnings
+}
+
 // unitValues rates every reading.
 func (res *Result) unitValues(st *Stages, r *gauged.Rater, maxGap int64, c *counter) {
+	var low lowReadings
 	for i, t := range st.Time {
 		h := st.Stage[i]
 		v := r.AtUnix(t, h, false)
+		low.take(t, h, v, r.Rating(v.Period))
 		u := UnitValue{Time: t, Stage: h, Shift: v.Shift, Effective: v.Effective, Discharge: v.Discharge, Period: int32(v.Period)}
 		if st.Quality != nil {
 			u.Quality = st.Quality[i]
@@ -282,6 +349,7 @@ func (res *Result) unitValues(st *Stages, r *gauged.Rater, maxGap int64, c *coun
 		res.Units[i] = u
 		c.reading(u)
 	}
+	res.Warnings = low.warn(len(st.Time), res.Zone, res.Warnings)
 }
 
 // lookupFlag is the flag of each way a discharge was found.

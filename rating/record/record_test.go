@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"math/rand/v2"
+	"slices"
+	"strings"
 	"testing"
 	"time"
 
@@ -182,8 +184,54 @@ func TestFlags(t *testing.T) {
 	if math.Abs(d.Coverage-2.0/24) > coverageTol || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
 		t.Errorf("day: coverage %v flags %q", d.Coverage, d.Flags)
 	}
-	if len(res.Warnings) != 3 {
+	if len(res.Warnings) != 4 || !strings.HasPrefix(res.Warnings[0], "1 of 7 readings lie below the gauge height of zero flow") {
 		t.Errorf("warnings %q", res.Warnings)
+	}
+}
+
+// TestLowReadingWarnings: readings below the gauge height of zero flow are
+// counted with the lowest of them, and readings below the table's lowest
+// row by more than its stage range (0.5 to 3 m: below −2 m) are warned of
+// as a missing-value code. The -9999 of the cases stands for a logger's
+// missing-value code (common practice).
+func TestLowReadingWarnings(t *testing.T) {
+	withE := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.5, Discharge: 1}, {Stage: 3, Discharge: 30}},
+		HasZeroFlow: true, ZeroFlow: 0.2}
+	noE := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.5, Discharge: 1}, {Stage: 3, Discharge: 30}}}
+	for _, tc := range []struct {
+		name  string
+		rt    *gauged.RatingTable
+		st    *Stages
+		below string // the warning on readings below zero flow ("" none)
+		far   string // the warning on readings far below the table ("" none)
+	}{
+		{"all rated", withE, stages(0, 1, 1, 2, 2, 1), "", ""},
+		{"at zero flow is not below", withE, stages(0, 1, 1, 0.2, 2, 1), "", ""},
+		{"just below zero flow", withE, stages(0, 1, 1, 0.1, 2, 0.15, 3, 1),
+			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T01:00:00Z)", ""},
+		{"a missing-value code", withE, stages(0, 1, 1, -9999, 2, 0.1, 3, 1),
+			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest -9999 at 2024-01-01T01:00:00Z)",
+			"1 of 4 readings lie below the lowest row of their rating table by more than the table's whole stage range " +
+				`(the lowest -9999 at 2024-01-01T01:00:00Z, under "r" whose rows span 0.5 to 3)`},
+		// 0.5 − 2.5 = −2: −2 itself is not far below, −2.01 is.
+		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lie below the gauge height of zero flow", ""},
+		{"beyond the bound", withE, stages(0, 1, 1, -2.01, 2, 1), "1 of 3 readings lie below the gauge height of zero flow",
+			"1 of 3 readings lie below the lowest row of their rating table"},
+		{"no zero flow: outside the table", noE, stages(0, 1, 1, -9999, 2, -999), "",
+			"2 of 3 readings lie below the lowest row of their rating table by more than the table's whole stage range (the lowest -9999"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := compute(t, tc.st, rater(t, gauged.History{Periods: []gauged.Period{{Rating: tc.rt}}}), Options{})
+			for _, c := range []struct{ want, key string }{{tc.below, "below the gauge height of zero flow"}, {tc.far, "below the lowest row"}} {
+				i := slices.IndexFunc(res.Warnings, func(w string) bool { return strings.Contains(w, c.key) })
+				switch {
+				case c.want == "" && i >= 0:
+					t.Errorf("unexpected warning %q", res.Warnings[i])
+				case c.want != "" && (i < 0 || !strings.HasPrefix(res.Warnings[i], c.want)):
+					t.Errorf("warnings %q, want one beginning %q", res.Warnings, c.want)
+				}
+			}
+		})
 	}
 }
 
