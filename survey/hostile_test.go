@@ -128,15 +128,13 @@ func TestByteLimit(t *testing.T) {
 	}
 }
 
-// A workbook with a sheet whose rows are out of order, or whose first
-// sheet is hidden, is refused.
+// A workbook with a sheet whose rows are out of order is refused.
 func TestWorkbookAmbiguities(t *testing.T) {
 	for _, c := range []struct {
 		seed string
 		want error
 	}{
 		{"rows-out-of-order", ErrRowOrder},
-		{"hidden-first-sheet", ErrHiddenSheet},
 	} {
 		data, err := os.ReadFile("testdata/fuzz/FuzzParseWorkbook/" + c.seed)
 		if err != nil {
