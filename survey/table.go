@@ -203,8 +203,10 @@ func (b *tableBuilder) row(rec []string, row int) error {
 }
 
 // ParseCSV reads a comma-separated table of UTF-8 text (text that is not,
-// UTF-16, binary data, a workbook, a tab-separated table, is refused
-// saying what it is). Lines starting with '#' are
+// UTF-16, binary data, another encoding, a workbook, a tab-separated
+// table, lines ended by carriage returns alone, is refused saying what it
+// is; Excel's separator hint "sep=," on the first line is skipped, a hint
+// of another separator refused). Lines starting with '#' are
 // comments ("# key: value" lines above the header are kept in Meta), a
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
 // the cells under the header. A table beyond the limits (see Limits) is an
@@ -216,6 +218,9 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	}
 	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	if err := sniffText(data, name); err != nil {
+		return nil, err
+	}
+	if data, err = dropSeparatorHint(data, name); err != nil {
 		return nil, err
 	}
 	b := newTableBuilder(name, "")
