@@ -234,18 +234,6 @@ func utf16Like(b []byte) bool {
 	return zeros > len(b)/4
 }
 
-// trimPartialRune drops an incomplete UTF-8 sequence cut at the end of a
-// sniffed head.
-func trimPartialRune(b []byte) []byte {
-	for i := 0; i < utf8.UTFMax && len(b) > 0; i++ {
-		if r, _ := utf8.DecodeLastRune(b); r != utf8.RuneError {
-			break
-		}
-		b = b[:len(b)-1]
-	}
-	return b
-}
-
 // maxEcho bounds how much of a cell or header a message repeats.
 const maxEcho = 40
 
