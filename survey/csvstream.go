@@ -5,12 +5,15 @@ import (
 	"bytes"
 	"encoding/csv"
 	"errors"
+	"fmt"
 	"io"
 )
 
 // csvStream reads CSV records one at a time without keeping them, with the
 // conventions of ParseCSV: a byte-order mark is dropped, lines starting
-// with '#' are comments, blank records are skipped, and fields are trimmed.
+// with '#' are comments, blank records are skipped, fields are trimmed, and
+// Excel's separator hint "sep=," on the first line is skipped (a hint of
+// another separator is refused).
 // A line without a quote is split at its commas in place; a record with
 // quotes is handed to encoding/csv, so quoting follows RFC 4180 exactly.
 // The fields returned are valid until the next call.
@@ -92,6 +95,14 @@ func (c *csvStream) next() ([][]byte, int, error) {
 		}
 		if err != nil {
 			return nil, 0, &ParseError{File: c.name, Err: err}
+		}
+		if c.line == 1 {
+			if m := excelSeparatorHint.FindSubmatch(line); m != nil {
+				if string(m[1]) != "," {
+					return nil, 0, &ParseError{File: c.name, Row: 1, Err: fmt.Errorf("%w (%s)", ErrSeparatorHint, bytes.TrimSpace(line))}
+				}
+				continue // Excel's separator hint
+			}
 		}
 		if len(line) == 0 || line[0] == '#' {
 			if !c.started && len(line) > 0 {

@@ -63,13 +63,15 @@ const MaxUncertaintyPercent = 100.0
 
 // ReadGaugings reads gaugings from a CSV file or a workbook sheet. For a
 // workbook with no sheet named, the sheet FieldSheetGaugings is read if present,
-// else the first sheet.
+// else the first visible sheet.
 func ReadGaugings(path, sheet string) (Gaugings, error) {
 	t, err := readTable(path, sheet, FieldSheetGaugings)
 	if err != nil {
 		return Gaugings{}, err
 	}
-	return GaugingsFromTable(t)
+	g, err := GaugingsFromTable(t)
+	g.Warnings = append(t.Warnings, g.Warnings...)
+	return g, err
 }
 
 // ParseGaugings reads gaugings from CSV text; name is used in messages.

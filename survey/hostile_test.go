@@ -128,15 +128,13 @@ func TestByteLimit(t *testing.T) {
 	}
 }
 
-// A workbook with a sheet whose rows are out of order, or whose first
-// sheet is hidden, is refused.
+// A workbook with a sheet whose rows are out of order is refused.
 func TestWorkbookAmbiguities(t *testing.T) {
 	for _, c := range []struct {
 		seed string
 		want error
 	}{
 		{"rows-out-of-order", ErrRowOrder},
-		{"hidden-first-sheet", ErrHiddenSheet},
 	} {
 		data, err := os.ReadFile("testdata/fuzz/FuzzParseWorkbook/" + c.seed)
 		if err != nil {
@@ -166,4 +164,35 @@ func corpusBytes(t *testing.T, data []byte) []byte {
 		t.Fatal(err)
 	}
 	return []byte(s)
+}
+
+// Text a spreadsheet saves in another encoding, with tabs, with carriage
+// returns alone or under Excel's separator hint is refused saying so, at
+// the line (and field) where it shows; the hint "sep=," is skipped.
+func TestTextEncodingsAndSeparators(t *testing.T) {
+	for _, c := range []struct {
+		name, text string
+		want       error
+		row, col   int
+	}{
+		{"windows-1252 in a note", "station,elevation,note\n0,10,caf\xe9\n5,5,x\n10,10,y\n", ErrNotUTF8, 2, 3},
+		{"windows-1252 in the header", "station,\xe9levation\n0,10\n", ErrNotUTF8, 1, 2},
+		{"windows-1252 after a quoted comma", "station,elevation,note\n0,10,\"a, b\"\n5,5,\"\xb0\"\n10,10,\n", ErrNotUTF8, 3, 3},
+		{"windows-1252 beyond the first 4096 bytes", "station,elevation\n" + strings.Repeat("1,2\n", 1100) + "3,4\xe9\n", ErrNotUTF8, 1102, 2},
+		{"tabs", "# survey\nstation\televation\n0\t10\n", ErrTabs, 2, 0},
+		{"carriage returns alone", "station,elevation\r0,10\r5,5\r10,10\r", ErrCROnly, 0, 0},
+		{"semicolon hint", "sep=;\nstation;elevation\n0;10\n", ErrSeparatorHint, 1, 0},
+	} {
+		_, err := ParseCSV(strings.NewReader(c.text), "s.csv")
+		var pe *ParseError
+		if !errors.Is(err, c.want) || !errors.As(err, &pe) || pe.Row != c.row || pe.Column != c.col {
+			t.Errorf("%s: %v, want %v at %d:%d", c.name, err, c.want, c.row, c.col)
+		}
+	}
+	for _, text := range []string{"sep=,\nstation,elevation\n0,10\n5,5\n10,10\n", "SEP=,\r\nstation,elevation\r\n0,10\r\n5,5\r\n10,10\r\n"} {
+		tab, err := ParseCSV(strings.NewReader(text), "s.csv")
+		if err != nil || tab.HeaderRow != 2 || len(tab.Records) != 3 || tab.Records[0].Row != 3 {
+			t.Errorf("separator hint %q: %+v, %v; want the header at line 2 and three rows from line 3", text, tab, err)
+		}
+	}
 }

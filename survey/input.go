@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"regexp"
 	"strconv"
 	"strings"
 	"syscall"
@@ -52,6 +53,9 @@ var (
 	ErrBinary          = errors.New("is not a text table (it holds binary data)")
 	ErrWorkbookNamed   = errors.New("is a workbook with another file name: rename it .xlsx")
 	ErrTabs            = errors.New("is separated by tabs: save it as comma-separated values")
+	ErrNotUTF8         = errors.New("is not UTF-8 text (a byte of another encoding, such as Windows-1252): save it as UTF-8 (CSV UTF-8) and read it again")
+	ErrCROnly          = errors.New("ends its lines with carriage returns only (no line feeds): save it with Windows or Unix line endings")
+	ErrSeparatorHint   = errors.New("names a separator other than a comma on its first line: save it as comma-separated values")
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
 )
 
@@ -125,8 +129,9 @@ func readInput(path string) ([]byte, error) {
 var zipMagic = []byte("PK\x03\x04")
 
 // sniffText refuses data that is not a UTF-8 text table, saying what it
-// is: a workbook, UTF-16 text, binary data. The first line is also
-// checked for tabs where commas belong.
+// is: a workbook, UTF-16 text, binary data, text of another encoding (at
+// its line and field), lines ended by carriage returns alone. The first
+// line is also checked for tabs where commas belong (at its line).
 func sniffText(data []byte, name string) error {
 	head := data[:min(len(data), 4096)]
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
@@ -140,20 +145,81 @@ func sniffText(data []byte, name string) error {
 			return fail(ErrUTF16)
 		}
 		return fail(ErrBinary)
-	case !utf8.Valid(trimPartialRune(head)):
-		return fail(ErrBinary)
+	case !utf8.Valid(data):
+		row, col := textPosition(data, invalidUTF8(data))
+		return &ParseError{File: name, Row: row, Column: col, Err: ErrNotUTF8}
+	case bytes.IndexByte(data, '\n') < 0 && bytes.IndexByte(data, '\r') >= 0:
+		return fail(ErrCROnly)
 	}
-	for _, line := range bytes.Split(head, []byte("\n")) {
+	for i, line := range bytes.Split(head, []byte("\n")) {
 		line = bytes.TrimSpace(line)
 		if len(line) == 0 || line[0] == '#' {
 			continue
 		}
 		if bytes.IndexByte(line, '\t') >= 0 && bytes.IndexByte(line, ',') < 0 {
-			return fail(ErrTabs)
+			return &ParseError{File: name, Row: i + 1, Err: ErrTabs}
 		}
 		break
 	}
 	return nil
+}
+
+// invalidUTF8 returns the offset of the first byte of data that is not
+// part of a valid UTF-8 sequence (len(data) if there is none).
+func invalidUTF8(data []byte) int {
+	for i := 0; i < len(data); {
+		r, n := utf8.DecodeRune(data[i:])
+		if r == utf8.RuneError && n <= 1 {
+			return i
+		}
+		i += n
+	}
+	return len(data)
+}
+
+// textPosition returns the 1-based line and CSV field of byte offset off
+// of comma-separated text: fields are counted by the commas before it on
+// its record, commas and line ends inside double quotes not counting as
+// separators (the line is the physical line).
+func textPosition(data []byte, off int) (line, field int) {
+	line, field = 1, 1
+	quoted := false
+	for _, c := range data[:min(off, len(data))] {
+		switch {
+		case c == '"':
+			quoted = !quoted
+		case c == '\n':
+			line++
+			if !quoted {
+				field = 1
+			}
+		case c == ',' && !quoted:
+			field++
+		}
+	}
+	return line, field
+}
+
+// excelSeparatorHint is the first line Excel reads as the separator of
+// the lines below ("sep=," and the like).
+var excelSeparatorHint = regexp.MustCompile(`(?i)^sep=(.)?\s*$`)
+
+// dropSeparatorHint blanks a first line "sep=," (Excel's separator hint),
+// keeping the line count, so that the header below it is read; a hint of
+// another separator is an error at line 1.
+func dropSeparatorHint(data []byte, name string) ([]byte, error) {
+	end := bytes.IndexByte(data, '\n')
+	if end < 0 {
+		end = len(data)
+	}
+	m := excelSeparatorHint.FindSubmatch(bytes.TrimRight(data[:end], "\r"))
+	if m == nil {
+		return data, nil
+	}
+	if string(m[1]) != "," {
+		return nil, &ParseError{File: name, Row: 1, Err: fmt.Errorf("%w (%s)", ErrSeparatorHint, bytes.TrimSpace(data[:end]))}
+	}
+	return data[end:], nil
 }
 
 // utf16Like reports text whose every other byte is zero: UTF-16 without a
@@ -166,18 +232,6 @@ func utf16Like(b []byte) bool {
 		}
 	}
 	return zeros > len(b)/4
-}
-
-// trimPartialRune drops an incomplete UTF-8 sequence cut at the end of a
-// sniffed head.
-func trimPartialRune(b []byte) []byte {
-	for i := 0; i < utf8.UTFMax && len(b) > 0; i++ {
-		if r, _ := utf8.DecodeLastRune(b); r != utf8.RuneError {
-			break
-		}
-		b = b[:len(b)-1]
-	}
-	return b
 }
 
 // maxEcho bounds how much of a cell or header a message repeats.

@@ -256,5 +256,7 @@ func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) 
 			}
 		}
 	}
-	return GaugingsFromTable(t)
+	g, err := GaugingsFromTable(t)
+	g.Warnings = append(t.Warnings, g.Warnings...)
+	return g, err
 }

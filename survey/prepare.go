@@ -33,7 +33,7 @@ func requestf(format string, args ...any) error {
 // SectionRequest says which section to prepare and how to adjust it. The
 // zero value of every override keeps the survey as read.
 type SectionRequest struct {
-	// Path and Sheet name the survey (Sheet "" is the first sheet of a
+	// Path and Sheet name the survey (Sheet "" is the first visible sheet of a
 	// workbook); Path is empty when Shape is given.
 	Path, Sheet string
 	// Shape is a built section's spec (see subdivide.ParseShape) instead

@@ -22,7 +22,9 @@ func ReadRatingCSV(path, sheet string, u UnitChoice) (rating.Table, error) {
 	if err != nil {
 		return rating.Table{}, err
 	}
-	return RatingFromTable(t, u)
+	tab, err := RatingFromTable(t, u)
+	tab.Warnings = append(t.Warnings, tab.Warnings...)
+	return tab, err
 }
 
 // ParseRatingCSV reads a rating table from CSV text; name is used in

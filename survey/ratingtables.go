@@ -78,7 +78,9 @@ func ReadRatingTables(path string, opt RatingTableOptions) (RatingTables, error)
 	if err != nil {
 		return RatingTables{}, err
 	}
-	return RatingTablesFromTable(t, opt)
+	rt, err := RatingTablesFromTable(t, opt)
+	rt.Warnings = append(t.Warnings, rt.Warnings...)
+	return rt, err
 }
 
 // ParseRatingTables reads rating tables from CSV text; name is used in

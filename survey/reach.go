@@ -171,7 +171,7 @@ func ReadReach(path, sheet string, opt SectionOptions) (*Reach, error) {
 // ReadReachWith reads a reach table from a CSV file or a workbook sheet,
 // then every section's survey: a sheet of the same workbook when the reach
 // is in a workbook and a sheet has that name, otherwise a file relative to
-// the reach file's folder (CSV, or the first sheet of a workbook).
+// the reach file's folder (CSV, or the first visible sheet of a workbook).
 func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	opt := ro.Section
 	t, err := ReadTable(path, sheet)
@@ -183,6 +183,7 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	if err != nil {
 		return nil, err
 	}
+	r.Warnings = append(t.Warnings, r.Warnings...)
 	var errs errorList
 	for i := range r.Rows {
 		row := &r.Rows[i]

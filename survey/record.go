@@ -23,7 +23,7 @@ const (
 )
 
 // StageRecordOptions configure the reading of a stage record. The zero
-// value reads the first sheet of a workbook and takes times written
+// value reads the first visible sheet of a workbook and takes times written
 // without an offset as UTC.
 type StageRecordOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).
@@ -136,15 +136,9 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 		return nil, err
 	}
 	defer f.Close()
-	sheet := opt.Sheet
-	sheets := f.GetSheetList()
-	if sheet == "" {
-		if len(sheets) == 0 {
-			return nil, &ParseError{File: path, Err: errors.New("workbook has no sheets")}
-		}
-		sheet = sheets[0]
-	} else if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
+	sheet, warnings, err := chooseSheet(f, path, opt.Sheet)
+	if err != nil {
+		return nil, err
 	}
 	date1904 := false
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
@@ -154,6 +148,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	if err != nil {
 		return nil, err
 	}
+	b.out.Warnings = append(b.out.Warnings, warnings...)
 	rows, err := f.Rows(sheet)
 	if err != nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}

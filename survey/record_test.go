@@ -1,6 +1,7 @@
 package survey
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -207,8 +208,11 @@ func TestParseDecimal(t *testing.T) {
 // readAllCSV reads CSV text the way ParseCSV does (encoding/csv with the
 // same settings, blank records skipped, fields trimmed), for comparison.
 func readAllCSV(in string) ([][]string, []int, error) {
-	br := strings.NewReader(strings.TrimPrefix(in, "\ufeff"))
-	cr := csv.NewReader(br)
+	data, err := dropSeparatorHint([]byte(strings.TrimPrefix(in, "\ufeff")), "x.csv")
+	if err != nil {
+		return nil, nil, err
+	}
+	cr := csv.NewReader(bytes.NewReader(data))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
@@ -283,6 +287,11 @@ func TestCSVStreamMatchesEncodingCSV(t *testing.T) {
 		"#only a comment",
 		"a,b\n\"#x\",1\n#\"\n",
 		"a\n\"1\n#2\"\n",
+		"sep=,\na,b\n1,2\n",
+		"sep=,\r\na,b\r\n",
+		"sep=;\na;b\n",
+		"\ufeffsep=,\na,b\n",
+		"a,b\nsep=,\n",
 	} {
 		checkStreamMatches(t, in)
 	}

@@ -75,7 +75,9 @@ func ReadSection(path, sheet string, opt SectionOptions) (Survey, error) {
 	if err != nil {
 		return Survey{}, err
 	}
-	return SectionFromTable(t, opt)
+	sv, err := SectionFromTable(t, opt)
+	sv.Warnings = append(t.Warnings, sv.Warnings...)
+	return sv, err
 }
 
 // ParseSection reads a survey from CSV text; name is used in messages.

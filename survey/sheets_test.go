@@ -94,3 +94,109 @@ func TestSurveySheetsBadSheetAlone(t *testing.T) {
 		t.Errorf("SectionSheets: %v, want the spoiled sheet's error", err)
 	}
 }
+
+// hiddenFirstBook writes a workbook whose first sheet, "old", is hidden
+// and holds an old survey (bed at 9), before the visible sheet "current"
+// (bed at 5).
+func hiddenFirstBook(t *testing.T) string {
+	t.Helper()
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "old")
+	f.NewSheet("current")
+	for sheet, bed := range map[string]float64{"old": 9, "current": 5} {
+		f.SetSheetRow(sheet, "A1", &[]any{"station", "elevation"})
+		f.SetSheetRow(sheet, "A2", &[]any{0, 10.0})
+		f.SetSheetRow(sheet, "A3", &[]any{5, bed})
+		f.SetSheetRow(sheet, "A4", &[]any{10, 10.0})
+	}
+	// excelize does not hide the active sheet: make "current" active first.
+	f.SetActiveSheet(1)
+	if err := f.SetSheetVisible("old", false); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// With no sheet named the first visible sheet is read, a hidden sheet
+// before it passed over; a hidden sheet named is read with a warning.
+func TestHiddenSheetChoice(t *testing.T) {
+	path := hiddenFirstBook(t)
+	for _, c := range []struct {
+		sheet, wantSheet string
+		wantBed          float64
+		warned           bool
+	}{
+		{"", "current", 5, false},
+		{"current", "current", 5, false},
+		{"old", "old", 9, true},
+	} {
+		sv, err := ReadSection(path, c.sheet, SectionOptions{})
+		if err != nil {
+			t.Fatalf("sheet %q: %v", c.sheet, err)
+		}
+		if got := sv.Section.Points[1].Elevation; got != c.wantBed {
+			t.Errorf("sheet %q: bed %g, want %g (sheet %s)", c.sheet, got, c.wantBed, c.wantSheet)
+		}
+		warned := false
+		for _, w := range sv.Warnings {
+			if strings.Contains(w, "is hidden") && strings.Contains(w, "'"+c.wantSheet+"'") {
+				warned = true
+			}
+		}
+		if warned != c.warned {
+			t.Errorf("sheet %q: warnings %q, hidden warning %v, want %v", c.sheet, sv.Warnings, warned, c.warned)
+		}
+		tab, err := ReadTable(path, c.sheet)
+		if err != nil || tab.Sheet != c.wantSheet {
+			t.Errorf("ReadTable sheet %q: read %v (%v), want %s", c.sheet, tab, err, c.wantSheet)
+		}
+	}
+	got, err := SectionSheets(path)
+	if err != nil || len(got) != 1 || got[0] != "current" {
+		t.Errorf("SectionSheets: %q, %v; want [current]", got, err)
+	}
+}
+
+// A stage record read from a workbook whose first sheet is hidden reads
+// the first visible sheet too.
+func TestHiddenSheetStageRecord(t *testing.T) {
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "old")
+	f.NewSheet("current")
+	for sheet, stage := range map[string]float64{"old": 9, "current": 5} {
+		f.SetSheetRow(sheet, "A1", &[]any{"time", "stage"})
+		f.SetSheetRow(sheet, "A2", &[]any{"2026-01-01T00:00:00Z", stage})
+		f.SetSheetRow(sheet, "A3", &[]any{"2026-01-01T01:00:00Z", stage})
+	}
+	f.SetActiveSheet(1)
+	if err := f.SetSheetVisible("old", false); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "record.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		sheet  string
+		want   float64
+		warned bool
+	}{
+		{"", 5, false},
+		{"old", 9, true},
+	} {
+		rec, err := ReadStageRecord(path, StageRecordOptions{Sheet: c.sheet})
+		if err != nil {
+			t.Fatalf("sheet %q: %v", c.sheet, err)
+		}
+		if len(rec.Stages.Stage) == 0 || rec.Stages.Stage[0] != c.want {
+			t.Errorf("sheet %q: stages %v, want %g", c.sheet, rec.Stages.Stage, c.want)
+		}
+		if warned := len(rec.Warnings) > 0 && strings.Contains(strings.Join(rec.Warnings, " "), "is hidden"); warned != c.warned {
+			t.Errorf("sheet %q: warnings %q, want hidden warning %v", c.sheet, rec.Warnings, c.warned)
+		}
+	}
+}

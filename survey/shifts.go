@@ -29,7 +29,7 @@ func ShiftColumns() []string {
 }
 
 // ShiftTableOptions configure the reading of shift diagrams. The zero
-// value reads the first sheet of a workbook and takes times written
+// value reads the first visible sheet of a workbook and takes times written
 // without an offset as UTC.
 type ShiftTableOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).

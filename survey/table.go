@@ -39,6 +39,9 @@ type Table struct {
 	// lines of a CSV file, or two-cell rows above a sheet's header, keyed
 	// by the lower-case key (see MetaKeys).
 	Meta map[string]string
+	// Warnings are unusual but legal facts about where the table was
+	// read (a hidden sheet named).
+	Warnings []string
 }
 
 // Record is one data row and its 1-based line (CSV) or row (sheet).
@@ -60,7 +63,7 @@ func IsWorkbook(path string) bool {
 const MaxWorkbookBytes = 1 << 30
 
 // ReadTable reads a table from a CSV file, or from a sheet of a workbook
-// (by extension; sheet "" is the first sheet). "-" reads standard input,
+// (by extension; sheet "" is the first visible sheet). "-" reads standard input,
 // a workbook or CSV text as its first bytes say. Only regular files of at
 // most the limits (see Limits) are read; text that is not a UTF-8 table
 // (UTF-16, binary, a workbook named .csv, tab-separated) is refused
@@ -209,8 +212,10 @@ func (b *tableBuilder) row(rec []string, row int) error {
 }
 
 // ParseCSV reads a comma-separated table of UTF-8 text (text that is not,
-// UTF-16, binary data, a workbook, a tab-separated table, is refused
-// saying what it is). Lines starting with '#' are
+// UTF-16, binary data, another encoding, a workbook, a tab-separated
+// table, lines ended by carriage returns alone, is refused saying what it
+// is; Excel's separator hint "sep=," on the first line is skipped, a hint
+// of another separator refused). Lines starting with '#' are
 // comments ("# key: value" lines above the header are kept in Meta), a
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
 // the cells under the header. A table beyond the limits (see Limits) is an
@@ -222,6 +227,9 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	}
 	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	if err := sniffText(data, name); err != nil {
+		return nil, err
+	}
+	if data, err = dropSeparatorHint(data, name); err != nil {
 		return nil, err
 	}
 	b := newTableBuilder(name, "")
@@ -265,29 +273,65 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	return b.t, nil
 }
 
-// ErrHiddenSheet is the cause of a workbook whose first sheet, read when
-// no sheet is named, is hidden.
-var ErrHiddenSheet = errors.New("the first sheet is hidden: name the sheet to read")
+// ErrNoVisibleSheet is the cause of a workbook, read with no sheet named,
+// all of whose sheets are hidden.
+var ErrNoVisibleSheet = errors.New("every sheet is hidden: name the sheet to read")
+
+// sheetVisible reports whether a sheet of an open workbook is shown (not
+// hidden or very hidden). A sheet whose state cannot be read counts as
+// shown.
+func sheetVisible(f *excelize.File, sheet string) bool {
+	visible, err := f.GetSheetVisible(sheet)
+	return err != nil || visible
+}
+
+// HiddenSheetWarning is the warning given when a hidden sheet is read
+// because it was named.
+func HiddenSheetWarning(path, sheet string) string {
+	return fmt.Sprintf("%s['%s']: the sheet is hidden in the workbook: check it is the one meant", path, sheet)
+}
+
+// chooseSheet returns the sheet of an open workbook a reader reads:
+// sheet itself when named (it must exist; a hidden one is read, with a
+// warning), or else the first visible sheet, a hidden sheet before it
+// being passed over (it may hold an old survey). Every reader of a
+// workbook sheet chooses it here. Errors: no such sheet, no sheets, or
+// ErrNoVisibleSheet.
+func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error) {
+	sheets := f.GetSheetList()
+	if sheet != "" {
+		if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
+			return "", nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
+		}
+		if !sheetVisible(f, sheet) {
+			return sheet, []string{HiddenSheetWarning(path, sheet)}, nil
+		}
+		return sheet, nil, nil
+	}
+	if len(sheets) == 0 {
+		return "", nil, &ParseError{File: path, Err: errors.New("workbook has no sheets")}
+	}
+	for _, s := range sheets {
+		if sheetVisible(f, s) {
+			return s, nil, nil
+		}
+	}
+	return "", nil, &ParseError{File: path, Err: fmt.Errorf("%w (sheets: %s)", ErrNoVisibleSheet, strings.Join(sheets, ", "))}
+}
 
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
-// the first, which must be visible). Cells are read raw: numbers as
-// written, dates as serials. Two-cell rows above the header whose first
-// cell is one of MetaKeys are kept in Meta.
+// the first visible sheet, see chooseSheet). Cells are read raw: numbers
+// as written, dates as serials. Two-cell rows above the header whose
+// first cell is one of MetaKeys are kept in Meta.
 func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
-	if sheet == "" {
-		if len(sheets) == 0 {
-			return nil, &ParseError{File: path, Err: errors.New("workbook has no sheets")}
-		}
-		sheet = sheets[0]
-		if visible, err := f.GetSheetVisible(sheet); err == nil && !visible {
-			return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("%w (sheets: %s)", ErrHiddenSheet, strings.Join(sheets, ", "))}
-		}
-	} else if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
+	sheet, warnings, err := chooseSheet(f, path, sheet)
+	if err != nil {
+		return nil, err
 	}
 	b := newTableBuilder(path, sheet)
 	b.t.Sheets = sheets
+	b.t.Warnings = warnings
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
 		b.t.Date1904 = *props.Date1904
 	}
@@ -483,8 +527,9 @@ mantissa:
 	return i > start && i == len(s)
 }
 
-// SectionSheets lists the sheets of a workbook that hold a survey: those
-// whose header row has station and elevation columns, in workbook order.
+// SectionSheets lists the visible sheets of a workbook that hold a survey:
+// those whose header row has station and elevation columns, in workbook
+// order (hidden sheets are passed over).
 // A sheet that cannot be read is an error (see SurveySheets to go on).
 func SectionSheets(path string) ([]string, error) {
 	sheets, err := SurveySheets(path)
@@ -496,7 +541,7 @@ func SectionSheets(path string) ([]string, error) {
 		if s.Err != nil {
 			return nil, s.Err
 		}
-		if s.Survey {
+		if s.Survey && !s.Hidden {
 			out = append(out, s.Sheet)
 		}
 	}
@@ -513,6 +558,8 @@ type SheetSurvey struct {
 	// Err is why the sheet could not be read (a *ParseError naming the
 	// sheet); Survey is then false.
 	Err error
+	// Hidden reports a sheet hidden in the workbook.
+	Hidden bool
 }
 
 // SurveySheets tells, for every sheet of a workbook in workbook order,
@@ -528,7 +575,7 @@ func SurveySheets(path string) ([]SheetSurvey, error) {
 	var out []SheetSurvey
 	for _, sheet := range f.GetSheetList() {
 		ok, err := hasSurveyHeader(f, sheet)
-		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil}
+		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f, sheet)}
 		if err != nil {
 			s.Err = &ParseError{File: path, Sheet: sheet, Err: err}
 		}

@@ -44,7 +44,7 @@ type backwaterFlags struct {
 }
 
 func (f *backwaterFlags) register(fs *flagSet) {
-	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
+	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first visible sheet)")
 	fs.Var(&f.discharges, "discharges", "discharges to compute, comma-separated (m3/s or ft3/s)")
 	fs.Float64Var(&f.from, "from", math.NaN(), "least discharge of a ladder (with --to and --step)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "greatest discharge of a ladder")

@@ -51,8 +51,11 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	if err != nil {
 		return err
 	}
-	jobs, inputs, err := batch.List(fs.Args(), f.sheet, format)
+	jobs, inputs, warnings, err := batch.ListWarn(fs.Args(), f.sheet, format)
 	if err != nil {
+		return err
+	}
+	if err := results.WriteWarnings(e.stderr, warnings); err != nil {
 		return err
 	}
 	req, err := f.request("")

@@ -38,8 +38,8 @@ type compareFlags struct {
 }
 
 func (f *compareFlags) register(fs *flagSet) {
-	fs.StringVar(&f.sheetA, "sheet-a", "", "workbook sheet of A (default: the first)")
-	fs.StringVar(&f.sheetB, "sheet-b", "", "workbook sheet of B (default: the first)")
+	fs.StringVar(&f.sheetA, "sheet-a", "", "workbook sheet of A (default: the first visible sheet)")
+	fs.StringVar(&f.sheetB, "sheet-b", "", "workbook sheet of B (default: the first visible sheet)")
 	fs.StringVar(&f.units, "units", "si", "unit system of both: si (m, m3/s) or us (ft, ft3/s); default: the units written in the headers of A (or B), else si")
 	f.coords.register(fs, true)
 	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows)")

@@ -68,7 +68,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.section, "section", "", "surveyed section at the gauge: hydraulic rating, n back-calculation, extension and prior")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope of the hydraulic rating (needed with --section)")
 	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
-	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first)")
+	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first visible sheet)")
 	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
 	fs.BoolVar(&f.compareOnly, "compare-only", false, "compare the gaugings with the hydraulic rating and fit nothing")

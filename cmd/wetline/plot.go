@@ -27,8 +27,8 @@ type plotFlags struct {
 func (f *plotFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.section, "section", "", "surveyed cross-section of the table, for the section figure")
-	fs.Lookup("sheet").Usage = "workbook sheet of the survey when --section is a workbook, else of a workbook TABLE (default: the first sheet)"
-	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first sheet)")
+	fs.Lookup("sheet").Usage = "workbook sheet of the survey when --section is a workbook, else of a workbook TABLE (default: the first visible sheet)"
+	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first visible sheet)")
 	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
 	fs.Float64Var(&f.datum, "datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
 	fs.IntVar(&f.width, "width", plotting.DefaultWidth, "figure width in pixels")

@@ -19,7 +19,7 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("project", projectUsage)
 	var cf coordFlags
 	cf.register(fs, true)
-	sheet := fs.String("sheet", "", "workbook sheet holding the survey (default: the first sheet)")
+	sheet := fs.String("sheet", "", "workbook sheet holding the survey (default: the first visible sheet)")
 	units := fs.String("units", "si", unitsUsage)
 	format := fs.String("format", "", "output format: csv (a survey every command reads) or json (default: from the -o extension, else csv)")
 	out := fs.StringP("output", "o", "", "output file (.csv or .json; default: standard output)")

@@ -49,13 +49,13 @@ type historyFlags struct {
 func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
 		"or none@TIME for a period without a rating; repeat for each rating period")
-	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first)")
+	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first visible sheet)")
 	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows)")
 	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating, where the periods without a rating (none@TIME) may be left out (default: from an extrapolated column)")
 	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
 	fs.StringVar(&hf.shifts, "shifts", "", "shift diagrams FILE (time, stage, shift columns; optional taper and abrupt)")
-	fs.StringVar(&hf.shiftsSheet, "shifts-sheet", "", "workbook sheet of the shift diagrams (default: the first)")
+	fs.StringVar(&hf.shiftsSheet, "shifts-sheet", "", "workbook sheet of the shift diagrams (default: the first visible sheet)")
 	fs.Var(&hf.offset, "utc-offset", "offset ±HH:MM of times written without one, in every file read; days and times are reported in it (default UTC)")
 	fs.StringVar(&hf.units, "units", "si", "unit system that labels the values: si (m, m3/s) or us (ft, ft3/s); nothing is converted "+
 		"(default: the units written in the rating tables' or the gaugings' headers, else si)")
@@ -354,7 +354,7 @@ type recordFlags struct {
 
 func (f *recordFlags) register(fs *flagSet) {
 	f.historyFlags.register(fs)
-	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet of the stage record (default: the first)")
+	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet of the stage record (default: the first visible sheet)")
 	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: set against the record and drawn on the hydrograph")
 	fs.StringVar(&f.gaugingsSheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
 	fs.BoolVar(&f.daily, "daily", false, "write the daily values (the default in text and CSV; with --unit too, both)")

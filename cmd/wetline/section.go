@@ -79,7 +79,7 @@ func (cf *coordFlags) options(fs *flagSet, u survey.UnitChoice) (survey.Coordina
 
 func (sf *sectionFlags) register(fs *flagSet) {
 	sf.fs = fs
-	fs.StringVar(&sf.sheet, "sheet", "", "workbook sheet holding the survey (default: the first sheet)")
+	fs.StringVar(&sf.sheet, "sheet", "", "workbook sheet holding the survey (default: the first visible sheet)")
 	fs.Var(&sf.n, "n", "Manning's n for the whole section, or LEFT,CHANNEL,RIGHT by region (overrides the survey's n column)")
 	fs.Var(&sf.banks, "banks", "bank stations LEFT,RIGHT bounding the main channel (overrides bank marks)")
 	fs.StringVar(&sf.units, "units", "si", unitsUsage)

@@ -48,7 +48,7 @@ type slopeAreaFlags struct {
 }
 
 func (f *slopeAreaFlags) register(fs *flagSet) {
-	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first sheet)")
+	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet holding the reach table (default: the first visible sheet)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the sections overlaid (PNG) into this folder")
 	fs.StringVar(&f.site, "site", "", siteUsage)
 	fs.StringVar(&f.units, "units", "si", unitsUsage)

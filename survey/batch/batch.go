@@ -63,6 +63,14 @@ var ErrNoSurveys = errors.New("no survey files (.csv, .xlsx) in the folder")
 // only the named sheet. It also returns every input file. Section names
 // are made unique and give the table file names, with extension ext.
 func List(args []string, sheet, ext string) ([]Job, []string, error) {
+	jobs, files, _, err := ListWarn(args, sheet, ext)
+	return jobs, files, err
+}
+
+// ListWarn is List, and also returns warnings: hidden sheets of a
+// workbook are passed over, each named in a warning, and a named sheet
+// that is hidden is read with a warning.
+func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, error) {
 	var files []string
 	for _, a := range args {
 		st, err := os.Stat(a)
@@ -72,16 +80,19 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 		}
 		found, err := surveyFiles(a)
 		if err != nil {
-			return nil, nil, err
+			return nil, nil, nil, err
 		}
 		files = append(files, found...)
 	}
 	var jobs []Job
+	var warnings []string
 	for _, path := range files {
-		jobs = append(jobs, fileJobs(path, sheet)...)
+		js, ws := fileJobs(path, sheet)
+		jobs = append(jobs, js...)
+		warnings = append(warnings, ws...)
 	}
 	uniqueNames(jobs, ext)
-	return jobs, files, nil
+	return jobs, files, warnings, nil
 }
 
 // surveyFiles lists the survey files of a folder in name order.
@@ -106,30 +117,45 @@ func surveyFiles(dir string) ([]string, error) {
 }
 
 // fileJobs returns the jobs of one input file: a CSV file, the named
-// sheet, or every survey sheet of a workbook, each sheet that cannot be
-// read being a failing job of its own.
-func fileJobs(path, sheet string) []Job {
+// sheet, or every visible survey sheet of a workbook, each sheet that
+// cannot be read being a failing job of its own; and warnings naming
+// hidden survey sheets passed over or a named sheet that is hidden.
+func fileJobs(path, sheet string) ([]Job, []string) {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-	switch {
-	case !survey.IsWorkbook(path):
-		return []Job{{Path: path, Name: base}}
-	case sheet != "":
-		return []Job{{Path: path, Sheet: sheet, Name: sheet}}
+	if !survey.IsWorkbook(path) {
+		return []Job{{Path: path, Name: base}}, nil
 	}
 	sheets, err := survey.SurveySheets(path)
 	if err != nil {
-		return []Job{{Path: path, Name: base, Err: err}}
+		return []Job{{Path: path, Name: base, Err: err}}, nil
+	}
+	if sheet != "" {
+		var warnings []string
+		for _, s := range sheets {
+			if s.Sheet == sheet && s.Hidden {
+				warnings = append(warnings, survey.HiddenSheetWarning(path, sheet))
+			}
+		}
+		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, warnings
 	}
 	var jobs []Job
+	var hidden []string
 	for _, s := range sheets {
-		if s.Survey || s.Err != nil {
+		switch {
+		case s.Hidden && (s.Survey || s.Err != nil):
+			hidden = append(hidden, "'"+s.Sheet+"'")
+		case s.Survey || s.Err != nil:
 			jobs = append(jobs, Job{Path: path, Sheet: s.Sheet, Name: s.Sheet, Err: s.Err})
 		}
 	}
-	if len(jobs) == 0 {
-		return []Job{{Path: path, Name: base, Err: fmt.Errorf("%s: %w", path, ErrNoSurveySheet)}}
+	var warnings []string
+	if len(hidden) > 0 {
+		warnings = append(warnings, fmt.Sprintf("%s: hidden sheet(s) %s not read: name one with --sheet to read it", path, strings.Join(hidden, ", ")))
 	}
-	return jobs
+	if len(jobs) == 0 {
+		return []Job{{Path: path, Name: base, Err: fmt.Errorf("%s: %w", path, ErrNoSurveySheet)}}, warnings
+	}
+	return jobs, warnings
 }
 
 // ErrNoSurveySheet is the cause of a workbook none of whose sheets holds

@@ -669,3 +669,49 @@ func TestBatchHeaderUnits(t *testing.T) {
 		})
 	}
 }
+
+// Every sheet of a workbook passes over hidden survey sheets, naming them
+// in a warning; a hidden sheet named is listed with a warning.
+func TestListHiddenSheets(t *testing.T) {
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "old")
+	for _, s := range []string{"XS-1", "XS-2"} {
+		f.NewSheet(s)
+	}
+	for _, s := range []string{"old", "XS-1", "XS-2"} {
+		f.SetSheetRow(s, "A1", &[]any{"station", "elevation"})
+		f.SetSheetRow(s, "A2", &[]any{0, 1})
+	}
+	f.SetActiveSheet(1) // excelize does not hide the active sheet
+	if err := f.SetSheetVisible("old", false); err != nil {
+		t.Fatal(err)
+	}
+	path := filepath.Join(t.TempDir(), "reach.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		sheet     string
+		wantJobs  []string
+		wantWarns int
+	}{
+		{"", []string{"XS-1", "XS-2"}, 1},
+		{"XS-2", []string{"XS-2"}, 0},
+		{"old", []string{"old"}, 1},
+	} {
+		jobs, _, warnings, err := batch.ListWarn([]string{path}, c.sheet, "csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []string
+		for _, j := range jobs {
+			got = append(got, j.Sheet)
+		}
+		if !slices.Equal(got, c.wantJobs) {
+			t.Errorf("sheet %q: jobs %q, want %q", c.sheet, got, c.wantJobs)
+		}
+		if len(warnings) != c.wantWarns || (c.wantWarns > 0 && !strings.Contains(warnings[0], "'old'")) {
+			t.Errorf("sheet %q: warnings %q, want %d naming 'old'", c.sheet, warnings, c.wantWarns)
+		}
+	}
+}
