@@ -602,17 +602,7 @@ func TestConduitFallingBranchWords(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			text := strings.Join(rep.Warnings, "\n")
-			for _, w := range tc.want {
-				if !strings.Contains(text, w) {
-					t.Errorf("warnings %q lack %q", rep.Warnings, w)
-				}
-			}
-			for _, w := range tc.lack {
-				if strings.Contains(text, w) {
-					t.Errorf("warnings %q say %q", rep.Warnings, w)
-				}
-			}
+			checkWarnings(t, rep.Warnings, tc.want, tc.lack)
 		})
 	}
 	compound := compile(t, subdivide.Section{
@@ -634,17 +624,7 @@ func TestConduitFallingBranchWords(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			text := strings.Join(tab.Warnings, "\n")
-			for _, w := range tc.want {
-				if !strings.Contains(text, w) {
-					t.Errorf("warnings %q lack %q", tab.Warnings, w)
-				}
-			}
-			for _, w := range tc.lack {
-				if strings.Contains(text, w) {
-					t.Errorf("warnings %q say %q", tab.Warnings, w)
-				}
-			}
+			checkWarnings(t, tab.Warnings, tc.want, tc.lack)
 		})
 	}
 }
@@ -743,5 +723,22 @@ func TestAnswerAtCrown(t *testing.T) {
 	}
 	if text := strings.Join(rep.Warnings, "\n"); !strings.Contains(text, "flows full, with no free surface") {
 		t.Errorf("warnings %q do not say the conduit flows full", rep.Warnings)
+	}
+}
+
+// checkWarnings fails the test when a warning wanted is missing from
+// warnings, or one to lack is there (each matched as a substring).
+func checkWarnings(t *testing.T, warnings, want, lack []string) {
+	t.Helper()
+	text := strings.Join(warnings, "\n")
+	for _, w := range want {
+		if !strings.Contains(text, w) {
+			t.Errorf("warnings %q lack %q", warnings, w)
+		}
+	}
+	for _, w := range lack {
+		if strings.Contains(text, w) {
+			t.Errorf("warnings %q say %q", warnings, w)
+		}
 	}
 }

@@ -734,19 +734,7 @@ func TestTemplateElevationRules(t *testing.T) {
 		{survey.FieldSheetGaugings, "B", ""},
 	} {
 		t.Run(tc.sheet+"!"+tc.col, func(t *testing.T) {
-			dvs, err := f.GetDataValidations(tc.sheet)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var dv *excelize.DataValidation
-			for _, d := range dvs {
-				if strings.HasPrefix(d.Sqref, tc.col+strconv.Itoa(headerRow(tc.sheet)+1)+":") {
-					dv = d
-				}
-			}
-			if dv == nil {
-				t.Fatalf("no rule on column %s", tc.col)
-			}
+			dv := columnRule(t, f, tc.sheet, tc.col)
 			lo, errLo := strconv.ParseFloat(dv.Formula1, 64)
 			hi, errHi := strconv.ParseFloat(dv.Formula2, 64)
 			if errLo != nil || errHi != nil || lo != -survey.MaxElevation || hi != survey.MaxElevation || !dv.ShowErrorMessage {
@@ -784,19 +772,7 @@ func TestTemplateCoordinateRules(t *testing.T) {
 		{survey.FieldSheetReach, "I", 0, survey.MaxCoordinate},
 	} {
 		t.Run(tc.sheet+"!"+tc.col, func(t *testing.T) {
-			dvs, err := f.GetDataValidations(tc.sheet)
-			if err != nil {
-				t.Fatal(err)
-			}
-			var dv *excelize.DataValidation
-			for _, d := range dvs {
-				if strings.HasPrefix(d.Sqref, tc.col+strconv.Itoa(headerRow(tc.sheet)+1)+":") {
-					dv = d
-				}
-			}
-			if dv == nil {
-				t.Fatalf("no rule on column %s", tc.col)
-			}
+			dv := columnRule(t, f, tc.sheet, tc.col)
 			lo, errLo := strconv.ParseFloat(dv.Formula1, 64)
 			hi, errHi := strconv.ParseFloat(dv.Formula2, 64)
 			if errLo != nil || errHi != nil || lo != tc.lo || hi != tc.hi {
@@ -811,4 +787,21 @@ func TestTemplateCoordinateRules(t *testing.T) {
 			}
 		})
 	}
+}
+
+// columnRule returns the validation rule on a template sheet's column,
+// from the first row below its header; the test fails when there is none.
+func columnRule(t *testing.T, f *excelize.File, sheet, col string) *excelize.DataValidation {
+	t.Helper()
+	dvs, err := f.GetDataValidations(sheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range dvs {
+		if strings.HasPrefix(d.Sqref, col+strconv.Itoa(headerRow(sheet)+1)+":") {
+			return d
+		}
+	}
+	t.Fatalf("no rule on column %s of %s", col, sheet)
+	return nil
 }
