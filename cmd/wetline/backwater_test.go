@@ -142,18 +142,7 @@ func TestBackwaterJSONKeys(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	keys := func(data []byte) []string {
-		dec := json.NewDecoder(bytes.NewReader(data))
-		dec.Token()
-		var ks []string
-		for dec.More() {
-			tok, _ := dec.Token()
-			ks = append(ks, tok.(string))
-			var skip json.RawMessage
-			dec.Decode(&skip)
-		}
-		return ks
-	}
+	keys := func(data []byte) []string { return jsonKeys(t, data) }
 	var doc struct {
 		Profiles []struct{ Sections []json.RawMessage }
 		Rating   json.RawMessage
@@ -185,18 +174,7 @@ func TestReadmeBackwaterJSONKeys(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	keys := func(data []byte) []string {
-		dec := json.NewDecoder(bytes.NewReader(data))
-		dec.Token()
-		var ks []string
-		for dec.More() {
-			tok, _ := dec.Token()
-			ks = append(ks, tok.(string))
-			var skip json.RawMessage
-			dec.Decode(&skip)
-		}
-		return ks
-	}
+	keys := func(data []byte) []string { return jsonKeys(t, data) }
 	var doc struct{ Rating json.RawMessage }
 	if err := json.Unmarshal([]byte(out), &doc); err != nil {
 		t.Fatal(err)
