@@ -3,7 +3,6 @@ package rating
 import (
 	"fmt"
 	"math"
-	"slices"
 	"strings"
 
 	"wetline/subdivide"
@@ -91,7 +90,7 @@ func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (Se
 	if stages == nil {
 		stages = commonStages(a, b)
 	} else {
-		stages = slices.Compact(slices.Sorted(slices.Values(stages)))
+		stages = SortedStages(stages)
 	}
 	if !(opt.Slope > 0) {
 		opt.Slope = 1

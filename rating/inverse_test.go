@@ -706,7 +706,8 @@ func TestCriticalStageExtremum(t *testing.T) {
 
 // At the crown a conduit flows full: no discharge is critical (NaN, with a
 // warning), and uniform flow is Manning's full-flow discharge
-// Q = (1/n)·(πD²/4)·(D/4)^(2/3)·√S (closed form, Chow 1959, section 6-2).
+// Q = (1/n)·(πD²/4)·(D/4)^(2/3)·√S (closed form: Manning's equation with
+// the full circle's area πD²/4 and hydraulic radius D/4).
 func TestAnswerAtCrown(t *testing.T) {
 	const d, n, s = 1.5, 0.013, 0.002
 	pipe := mustShape(t, "circle:diameter=1.5", n)

@@ -4,8 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"slices"
-	"sort"
 	"strings"
 
 	"wetline/subdivide"
@@ -324,9 +322,7 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 				return nil, fmt.Errorf("%w: %v is not a finite stage", ErrStages, h)
 			}
 		}
-		list := append([]float64(nil), s.List...)
-		sort.Float64s(list)
-		return slices.Compact(list), nil
+		return SortedStages(s.List), nil
 	}
 	if !ranged {
 		if !(g.Top() > g.Bottom()) {
