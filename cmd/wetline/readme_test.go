@@ -355,3 +355,76 @@ func TestReadmeExamples(t *testing.T) {
 		}
 	}
 }
+
+// readmeJSONReports say how each report of the README's Outputs table is
+// made as JSON from the demo folder: a file the demo writes, or a command
+// run there (paths relative to the folder).
+var readmeJSONReports = map[string][]string{
+	"rating":    {"tallow-xs1-rating.json"},
+	"backwater": {"tallow-backwater.json"},
+	"fit":       {"tallow-fit.json"},
+	"slopearea": {"reach-brindle-slopearea.json"},
+	"record":    {"tallow-record-2025.json"},
+	"solve":     {"solve", "tallow-xs1.csv", "--slope", "0.0012", "--discharge", "40", "--format", "json"},
+	"shifts": {"shifts", "tallow-visits-2025.csv", "--utc-offset", "+10:00", "--zero-flow", "0.32,0.26",
+		"--rating", "tallow-rating-7.csv", "--rating", "tallow-rating-8.csv@2025-02-18T06:00",
+		"--shifts", "tallow-shifts-2025.csv", "--format", "json"},
+	"compare": {"compare", "tallow-rating-7.csv", "tallow-rating-8.csv", "--zero-flow", "0.32,0.26",
+		"--format", "json"},
+}
+
+// readmeOutputRow matches a row of the README's Outputs table: the report's
+// first word and the first code span of its JSON column.
+var readmeOutputRow = regexp.MustCompile("(?m)^\\| ([a-z]+)\\b[^|]* \\| [^|]* \\| `([^`]+)`")
+
+// TestReadmeJSONKeys checks the JSON keys the README's Outputs table
+// documents for each report are the first keys of that report, in order,
+// as the table says they are.
+func TestReadmeJSONKeys(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	rows := readmeOutputRow.FindAllStringSubmatch(readme(t), -1)
+	seen := map[string]bool{}
+	for _, m := range rows {
+		name, list := m[1], m[2]
+		how, ok := readmeJSONReports[name]
+		if !ok {
+			t.Errorf("README Outputs: no way to make the %s report in this test", name)
+			continue
+		}
+		seen[name] = true
+		var data []byte
+		if len(how) == 1 {
+			b, err := os.ReadFile(filepath.Join(dir, how[0]))
+			if err != nil {
+				t.Fatal(err)
+			}
+			data = b
+		} else {
+			args := append([]string{how[0]}, how[1:]...)
+			for i, a := range args {
+				if strings.HasSuffix(a, ".csv") || strings.Contains(a, ".csv@") {
+					args[i] = filepath.Join(dir, a)
+				}
+			}
+			out, errs, code := runCLI(t, args...)
+			if code != 0 {
+				t.Fatalf("%s: exit %d: %s", name, code, errs)
+			}
+			data = []byte(out)
+		}
+		got := jsonKeys(t, data)
+		var want []string
+		for _, k := range strings.Split(list, ",") {
+			want = append(want, strings.TrimSuffix(strings.TrimSpace(k), "[]"))
+		}
+		if len(got) < len(want) || !slices.Equal(got[:len(want)], want) {
+			t.Errorf("README Outputs, %s: documents JSON keys %v first, the report's are %v", name, want, got)
+		}
+	}
+	for name := range readmeJSONReports {
+		if !seen[name] {
+			t.Errorf("README Outputs has no row for the %s report", name)
+		}
+	}
+}
