@@ -96,6 +96,8 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, bands, posterior, lookup sheet and figure; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings and both bands (PNG) into this folder")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 }
 
 func runFit(ctx context.Context, e *env, args []string) error {

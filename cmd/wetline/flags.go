@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/survey/output"
 )
 
 // flagSet is a subcommand's flags with its usage line.
@@ -53,7 +54,74 @@ func (fs *flagSet) parse(e *env, args []string) error {
 			bad = usagef("%s: --%s %s: want a finite number", fs.Name(), f.Name, f.Value.String())
 		}
 	})
-	return bad
+	if bad != nil {
+		return bad
+	}
+	return fs.distinctOutputs()
+}
+
+// Kinds of path an output flag names (see output).
+const (
+	outputFile   = "file"   // a file written whole
+	outputFolder = "folder" // a folder files are written into
+	outputEither = "either" // a file or a folder, by the run (rate's -o)
+)
+
+// outputKey is the flag annotation holding an output flag's kind.
+const outputKey = "wetline/output"
+
+// output marks the flags names as naming outputs of kind (outputFile,
+// outputFolder or outputEither): parse refuses two of them that name one
+// path (distinctOutputs).
+func (fs *flagSet) output(kind string, names ...string) {
+	for _, n := range names {
+		if err := fs.SetAnnotation(n, outputKey, []string{kind}); err != nil {
+			panic(err) // a flag registered under another name: a defect
+		}
+	}
+}
+
+// flagWords names a flag as a user types it: -o for the output, else
+// --name.
+func flagWords(f *pflag.Flag) string {
+	if f.Shorthand != "" {
+		return "-" + f.Shorthand
+	}
+	return "--" + f.Name
+}
+
+// distinctOutputs refuses, as a usage error naming both flags, two output
+// flags (marked with output) given paths that name the same file or
+// folder, after cleaning and through symbolic links (output.SamePath), or
+// a path inside another flag's path that is written as a file. Standard
+// output (-) and flags not given are passed over.
+func (fs *flagSet) distinctOutputs() error {
+	type dest struct {
+		flag, path, kind string
+	}
+	var outs []dest
+	fs.VisitAll(func(f *pflag.Flag) {
+		kind := f.Annotations[outputKey]
+		if len(kind) == 0 || !f.Changed {
+			return
+		}
+		if p := f.Value.String(); p != "" && p != "-" {
+			outs = append(outs, dest{flagWords(f), p, kind[0]})
+		}
+	})
+	for i, a := range outs {
+		for _, b := range outs[i+1:] {
+			switch {
+			case output.SamePath(a.path, b.path):
+				return usagef("%s: %s %s and %s %s name the same path: give each output its own", fs.Name(), a.flag, a.path, b.flag, b.path)
+			case a.kind == outputFile && output.Inside(b.path, a.path):
+				return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), b.flag, b.path, a.flag, a.path)
+			case b.kind == outputFile && output.Inside(a.path, b.path):
+				return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), a.flag, a.path, b.flag, b.path)
+			}
+		}
+	}
+	return nil
 }
 
 // help prints the usage line and the flags, and returns errHelp.

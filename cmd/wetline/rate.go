@@ -42,6 +42,8 @@ func (f *rateFlags) register(fs *flagSet) {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
 	fs.StringVar(&f.plots, "plots", "", "also write the rating, section and properties figures (PNG) into this folder")
+	fs.output(outputEither, "output") // a folder for a batch
+	fs.output(outputFolder, "plots")
 	fs.BoolVar(&f.allSheets, "all-sheets", false, "rate every sheet of a workbook that holds a survey (a station and an elevation column)")
 	fs.BoolVar(&f.long, "long", false, "with several surveys (files, folders, --all-sheets) -o names a folder for one table per section and an index; --long writes one long CSV table with a section column instead (to -o FILE or standard output)")
 }

@@ -65,6 +65,8 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&f.format, "format", "", "output format: text, json or xlsx (a results workbook with the inputs, checks, uncertainty and figures; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 	fs.BoolVar(&f.anywhere, "surveys-anywhere", false, "let the reach table name survey files outside its own folder")
 	f.coords.register(fs, false)
 	for _, name := range []string{"mark-spread", "mark-sd"} {
