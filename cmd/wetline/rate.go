@@ -87,12 +87,14 @@ func stagesApart(fs *flagSet, stages []float64) error {
 	case fs.Changed("step"):
 		return usageError{err: fmt.Errorf("rate: --step: %w", err)}
 	}
-	return usageError{err: fmt.Errorf("rate: --from/--to: the default step is too fine for this range: %w; give --step %g or more", err, results.LengthResolution)}
+	return usageError{err: fmt.Errorf("rate: the range is shorter than the table's precision, so its default stages are written alike: %w; give a wider --from/--to range", err)}
 }
 
-// stageSpec returns the stages asked for.
+// stageSpec returns the stages asked for; a default step is never finer
+// than the table writes its stages (rating.StageSpec.MinStep).
 func (f *rateFlags) stageSpec(fs *flagSet) rating.StageSpec {
-	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum}
+	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum,
+		MinStep: results.LengthResolution}
 	if fs.Changed("step") {
 		spec.Step = f.step
 	}
@@ -165,7 +167,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err := f.calib.apply(fs, p, opt); err != nil {
 		return rating.RatingReport{}, err
 	}
-	stages, err := f.stageSpec(fs).Stages(p.Geometry)
+	stages, stageWarnings, err := f.stageSpec(fs).StagesWarn(p.Geometry)
 	if err != nil && fs.Changed("step") {
 		err = tooFineStep("rate", f.step, p.Units, err)
 	}
@@ -191,7 +193,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	}
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
 	rep.Ground = p.Ground
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = append(append(append([]string(nil), p.Warnings...), stageWarnings...), rep.Warnings...)
 	return rep, nil
 }
 
