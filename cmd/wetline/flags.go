@@ -141,8 +141,11 @@ func (fs *flagSet) help(w io.Writer) error {
 		}
 		def := ""
 		switch {
-		case f.DefValue == "" || f.DefValue == "false" || f.DefValue == "0" || f.DefValue == "[]" || f.DefValue == "NaN":
+		case f.DefValue == "" || f.DefValue == "false" || f.DefValue == "[]" || f.DefValue == "NaN":
 		case strings.Contains(f.Usage, "default:"): // the usage says the default in words
+		case (f.DefValue == "0" || f.DefValue == "0s") && (!isNumber(f) || strings.Contains(f.Usage, "default") || f.Annotations[notGivenKey] != nil):
+			// a zero standing for a default said in words, for "not given",
+			// or of a value that is no number (an offset: UTC)
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
@@ -152,6 +155,28 @@ func (fs *flagSet) help(w io.Writer) error {
 		return err
 	}
 	return errHelp
+}
+
+// notGivenKey is the flag annotation of a number flag whose zero default
+// stands for "not given" (see notGiven).
+const notGivenKey = "wetline/not-given"
+
+// notGiven marks number flags whose zero default is no value but "not
+// given" (a required slope, a datum whose presence changes the report), so
+// help shows no default for them. Every other zero default is a value
+// help states, as "(default 0)", unless the usage says the default in
+// words.
+func (fs *flagSet) notGiven(names ...string) {
+	for _, n := range names {
+		if err := fs.SetAnnotation(n, notGivenKey, []string{"true"}); err != nil {
+			panic(err) // a flag registered under another name: a defect
+		}
+	}
+}
+
+// isNumber reports whether a flag takes a number or a duration.
+func isNumber(f *pflag.Flag) bool {
+	return argName(f.Value.Type()) == "NUM" || f.Value.Type() == "duration"
 }
 
 // argName names a flag's argument in help by its type.

@@ -34,6 +34,7 @@ const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHAN
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
+	fs.notGiven("slope")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step, at least 0.0001 (stages are written to 4 decimals; default: a round step giving about 50 rows)")

@@ -60,6 +60,7 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none; at most 1)")
 	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft, at most 1 m or 3 ft; a quality column overrides it where rated, and the report warns when every section is rated; 0: no spread of any mark, rated or not)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
+	fs.notGiven("slope")
 	fs.BoolVar(&f.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
 	connectedFlag(fs)
 	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")

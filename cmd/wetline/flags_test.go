@@ -90,3 +90,52 @@ func TestOutputsApart(t *testing.T) {
 		}
 	}
 }
+
+// TestHelpZeroDefaults: help states a zero default that is a value, as
+// "(default 0)", and none for a zero standing for "not given" (a required
+// slope, a datum whose presence changes the report) or for a default the
+// usage says in words.
+func TestHelpZeroDefaults(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		cmd, flag string
+		shown     bool
+	}{
+		{"backwater", "contraction", true},
+		{"record", "datum", true},
+		{"shifts", "datum", true},
+		{"rate", "slope", false},
+		{"rate", "datum", false},
+		{"rate", "offset-tolerance", false}, // "(default 0.5 m, 1.5 ft)" in words
+		{"solve", "slope", false},
+		{"slopearea", "slope", false},
+		{"fit", "slope", false},
+		{"fit", "datum", false},
+		{"fit", "segments", false},
+		{"fit", "controls", false}, // "(default 1, ...)" in words
+		{"fit", "utc-offset", false},
+		{"plot", "datum", false},
+		{"compare", "step", false},
+	} {
+		out, errs, code := runCLI(t, c.cmd, "--help")
+		if code != 0 {
+			t.Fatalf("%s --help: exit %d: %s", c.cmd, code, errs)
+		}
+		line := ""
+		for _, l := range strings.Split(out, "\n") {
+			if strings.HasPrefix(strings.TrimSpace(l), "--"+c.flag+" ") {
+				line = l
+			}
+		}
+		if line == "" {
+			t.Errorf("%s --help has no --%s", c.cmd, c.flag)
+			continue
+		}
+		if got := strings.HasSuffix(line, " (default 0)"); got != c.shown {
+			t.Errorf("%s --%s: default 0 shown %v, want %v:\n%s", c.cmd, c.flag, got, c.shown, line)
+		}
+		if strings.Count(line, "(default") > 1 {
+			t.Errorf("%s --%s states its default twice:\n%s", c.cmd, c.flag, line)
+		}
+	}
+}
