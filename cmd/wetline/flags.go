@@ -73,9 +73,12 @@ const outputKey = "wetline/output"
 // output marks the flags names as naming outputs of kind (outputFile,
 // outputFolder or outputEither): parse refuses two of them that name one
 // path (distinctOutputs).
-func (fs *flagSet) output(kind string, names ...string) {
+func (fs *flagSet) output(kind string, names ...string) { fs.annotate(outputKey, kind, names...) }
+
+// annotate sets the annotation key to value on each flag of names.
+func (fs *flagSet) annotate(key, value string, names ...string) {
 	for _, n := range names {
-		if err := fs.SetAnnotation(n, outputKey, []string{kind}); err != nil {
+		if err := fs.SetAnnotation(n, key, []string{value}); err != nil {
 			panic(err) // a flag registered under another name: a defect
 		}
 	}
@@ -111,13 +114,13 @@ func (fs *flagSet) distinctOutputs() error {
 	})
 	for i, a := range outs {
 		for _, b := range outs[i+1:] {
-			switch {
-			case output.SamePath(a.path, b.path):
+			if output.SamePath(a.path, b.path) {
 				return usagef("%s: %s %s and %s %s name the same path: give each output its own", fs.Name(), a.flag, a.path, b.flag, b.path)
-			case a.kind == outputFile && output.Inside(b.path, a.path):
-				return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), b.flag, b.path, a.flag, a.path)
-			case b.kind == outputFile && output.Inside(a.path, b.path):
-				return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), a.flag, a.path, b.flag, b.path)
+			}
+			for _, file := range [][2]dest{{a, b}, {b, a}} {
+				if out, in := file[0], file[1]; out.kind == outputFile && output.Inside(in.path, out.path) {
+					return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), in.flag, in.path, out.flag, out.path)
+				}
 			}
 		}
 	}
@@ -166,13 +169,7 @@ const notGivenKey = "wetline/not-given"
 // help shows no default for them. Every other zero default is a value
 // help states, as "(default 0)", unless the usage says the default in
 // words.
-func (fs *flagSet) notGiven(names ...string) {
-	for _, n := range names {
-		if err := fs.SetAnnotation(n, notGivenKey, []string{"true"}); err != nil {
-			panic(err) // a flag registered under another name: a defect
-		}
-	}
-}
+func (fs *flagSet) notGiven(names ...string) { fs.annotate(notGivenKey, "true", names...) }
 
 // isNumber reports whether a flag takes a number or a duration.
 func isNumber(f *pflag.Flag) bool {
