@@ -362,8 +362,30 @@ type RatingComparison struct {
 }
 
 // CompareRatings draws ratings at one section together as a PNG into w,
-// with a shaded stage band about the first and marked points.
+// with a shaded stage band about the first and marked points. The axes
+// reach a little beyond the data on every side (discharge from zero), so
+// that a point at an end, a rating of one discharge included, is drawn
+// whole with its marker.
 func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
+	p, fig, res, err := comparePanel(r)
+	if err != nil {
+		return res, err
+	}
+	err = render(w, r.Size, fig, func(c draw.Canvas) error {
+		p.Draw(c)
+		return nil
+	})
+	return res, err
+}
+
+// markerPad is the share of an axis's range left beyond the data at each
+// end of a rating comparison, so that the markers at the ends (up to 4
+// points in radius) lie inside the frame: 3 % of a panel 300 pixels wide
+// at 72 dots per inch is 9 pixels, more than the 4 of the largest marker.
+const markerPad = 0.03
+
+// comparePanel lays out the panel and the frame of a rating comparison.
+func comparePanel(r RatingComparison) (*plot.Plot, figure, Result, error) {
 	var res Result
 	un := names(r.Units)
 	p := newPanel("", "Discharge, "+un.discharge, "Stage, "+un.length)
@@ -390,7 +412,7 @@ func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
 		drawn += addCurve(p, pts, orDefault(c.Label, fmt.Sprintf("rating %d", i+1)), sty.color, width, 0, false)
 	}
 	if drawn == 0 {
-		return res, fmt.Errorf("%w: the rating comparison needs a curve", ErrNoData)
+		return nil, figure{}, res, fmt.Errorf("%w: the rating comparison needs a curve", ErrNoData)
 	}
 	var marked plotter.XYs
 	for _, m := range r.Marked {
@@ -405,19 +427,21 @@ func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
 			p.Legend.Add(orDefault(r.MarkedLabel, "marked reads"), sc)
 		}
 	}
-	if p.X.Min > 0 {
-		p.X.Min = 0
+	fromZero := p.X.Min >= 0
+	padAxis(&p.X, markerPad)
+	if p.Y.Min == p.Y.Max {
+		p.Y.Min, p.Y.Max = p.Y.Min-1, p.Y.Max+1 // one stage: a unit either side
+	} else {
+		padAxis(&p.Y, markerPad)
 	}
-	p.Y.Max += 0.03 * (p.Y.Max - p.Y.Min) // the top point clear of the frame
+	if fromZero {
+		p.X.Min = 0 // discharge from zero: no point lies left of it
+	}
 	p.Legend.Top, p.Legend.Left = true, true
 	p.Legend.XOffs, p.Legend.YOffs = vg.Points(8), -vg.Points(6)
 	fig := figure{title: titleOf(r.Site, r.Section, orDefault(r.What, "ratings compared")), subtitle: r.Subtitle,
 		foot: append(append([]string(nil), r.Notes...), orDefault(r.Caution, DefaultBackwaterCaution))}
-	err := render(w, r.Size, fig, func(c draw.Canvas) error {
-		p.Draw(c)
-		return nil
-	})
-	return res, err
+	return p, fig, res, nil
 }
 
 // stageBandPolygon builds a shaded band between the low and high stages

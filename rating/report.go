@@ -298,6 +298,12 @@ type StageSpec struct {
 	// gauge's zero: defaults are laid out from bottom − Datum to top −
 	// Datum (zero: stages are elevations).
 	Datum float64
+	// MinStep, when positive, is the finest step a table writes apart
+	// (length unit; 0.0001 for stages written to 4 decimals): a round
+	// default step finer than it is raised to it, and no default stage is
+	// laid out closer than it to the range's ends (StagesWarn). Zero: no
+	// bound.
+	MinStep float64
 }
 
 // ErrStageSpec is returned for a list given together with a range.
@@ -310,28 +316,41 @@ var ErrNoLowPoint = errors.New("the section's lower end is its lowest point, so 
 // Stages returns the stages the spec asks for in geometry g: the list
 // sorted into increasing stage with repeats dropped (a rating table's
 // stages increase from row to row), DefaultStages, or StageRange over the range with its defaults
-// filled. Errors wrap ErrStageSpec or ErrStages.
+// filled. Errors wrap ErrStageSpec or ErrStages. See StagesWarn for
+// MinStep.
 func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
+	st, _, err := s.StagesWarn(g)
+	return st, err
+}
+
+// StagesWarn is Stages, and also returns a warning for a reviewer when
+// the round default step (about MaxDefaultRows rows over the range) is
+// finer than MinStep and was raised to it. With MinStep set, no stage of a
+// default layout lies closer than MinStep to the first or the last, so a
+// table that writes its stages to MinStep writes each default stage apart
+// (the ends excepted, when the whole range is shorter than MinStep). A
+// given Step and a List are used as given.
+func (s StageSpec) StagesWarn(g subdivide.Geometry) ([]float64, []string, error) {
 	ranged := s.FromSet || s.ToSet || s.Step != 0
 	if len(s.List) > 0 {
 		if ranged {
-			return nil, ErrStageSpec
+			return nil, nil, ErrStageSpec
 		}
 		for _, h := range s.List {
 			if !finiteAll(h) {
-				return nil, fmt.Errorf("%w: %v is not a finite stage", ErrStages, h)
+				return nil, nil, fmt.Errorf("%w: %v is not a finite stage", ErrStages, h)
 			}
 		}
-		return SortedStages(s.List), nil
+		return SortedStages(s.List), nil, nil
 	}
 	if !ranged {
 		if !(g.Top() > g.Bottom()) {
-			return nil, fmt.Errorf("%w (lowest point and lower end at %g)", ErrNoLowPoint, g.Bottom()-s.Datum)
+			return nil, nil, fmt.Errorf("%w (lowest point and lower end at %g)", ErrNoLowPoint, g.Bottom()-s.Datum)
 		}
-		if s.Datum != 0 {
-			return DefaultStages(shifted{g, s.Datum}), nil
-		}
-		return DefaultStages(g), nil
+		lo, hi := g.Bottom()-s.Datum, g.Top()-s.Datum
+		step := s.defaultStep(lo, hi)
+		st := s.apart(defaultStages(lo, hi, step))
+		return st, s.raised(lo, hi, len(st)), nil
 	}
 	from, to, step := s.From, s.To, s.Step
 	if !s.FromSet {
@@ -340,21 +359,68 @@ func (s StageSpec) Stages(g subdivide.Geometry) ([]float64, error) {
 	if !s.ToSet {
 		to = g.Top() - s.Datum
 	}
-	if step == 0 {
-		step = NiceStep((to - from) / MaxDefaultRows)
+	if step != 0 {
+		st, err := StageRange(from, to, step)
+		return st, nil, err
 	}
-	return StageRange(from, to, step)
+	st, err := StageRange(from, to, s.defaultStep(from, to))
+	if err != nil {
+		return nil, nil, err
+	}
+	st = s.apart(st)
+	return st, s.raised(from, to, len(st)), nil
 }
+
+// roundStep is the round default step from lo to hi: about MaxDefaultRows
+// rows.
+func roundStep(lo, hi float64) float64 { return NiceStep((hi - lo) / MaxDefaultRows) }
+
+// defaultStep is the round step from lo to hi, raised to MinStep when
+// finer.
+func (s StageSpec) defaultStep(lo, hi float64) float64 {
+	if s.finer(roundStep(lo, hi)) {
+		return s.MinStep
+	}
+	return roundStep(lo, hi)
+}
+
+// finer reports whether step is finer than MinStep, beyond round-off.
+func (s StageSpec) finer(step float64) bool { return step < s.MinStep*(1-minStepTolerance) }
+
+// raised returns the warning that the round step from lo to hi was raised
+// to MinStep, giving rows stages; nil when it was not.
+func (s StageSpec) raised(lo, hi float64, rows int) []string {
+	step := roundStep(lo, hi)
+	if !s.finer(step) {
+		return nil
+	}
+	return []string{fmt.Sprintf("the stage range from %g to %g is too short for about %d rows: its round step, %g, is finer than %g, "+
+		"the finest step its table writes apart, so its stages are laid out %g apart instead (%d rows)",
+		lo, hi, MaxDefaultRows, step, s.MinStep, s.MinStep, rows)}
+}
+
+// apart drops, when MinStep is set, the stages between the first and the
+// last of a default layout that lie closer than MinStep to either.
+func (s StageSpec) apart(st []float64) []float64 {
+	if !(s.MinStep > 0) || len(st) < 3 {
+		return st
+	}
+	gap := s.MinStep * (1 - minStepTolerance)
+	lo, hi := st[0], st[len(st)-1]
+	out := append(make([]float64, 0, len(st)), lo)
+	for _, h := range st[1 : len(st)-1] {
+		if h-lo >= gap && hi-h >= gap {
+			out = append(out, h)
+		}
+	}
+	return append(out, hi)
+}
+
+// minStepTolerance is the relative round-off allowed when a gap between
+// two laid-out stages is held to MinStep: multiples of a decimal step sit
+// a few ulps either side of it.
+const minStepTolerance = 1e-6
 
 // DefaultStageSpec asks for the default stages (see StageSpec): it is the
 // zero value.
 func DefaultStageSpec() StageSpec { return StageSpec{} }
-
-// shifted is a geometry seen on a gauge: its bottom and top less a datum.
-type shifted struct {
-	subdivide.Geometry
-	datum float64
-}
-
-func (g shifted) Bottom() float64 { return g.Geometry.Bottom() - g.datum }
-func (g shifted) Top() float64    { return g.Geometry.Top() - g.datum }

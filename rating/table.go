@@ -63,7 +63,12 @@ func DefaultStages(g subdivide.Geometry) []float64 {
 	if !(hi > lo) {
 		return []float64{lo}
 	}
-	step := NiceStep((hi - lo) / MaxDefaultRows)
+	return defaultStages(lo, hi, NiceStep((hi-lo)/MaxDefaultRows))
+}
+
+// defaultStages lays out stages from lo to hi (lo < hi) as DefaultStages
+// does, in steps of step.
+func defaultStages(lo, hi, step float64) []float64 {
 	k0 := math.Ceil(lo/step - StageEpsilon)
 	start := multiple(k0, step)
 	n := int(math.Ceil((hi-start)/step + StageEpsilon))

@@ -181,3 +181,70 @@ func TestBottomMismatch(t *testing.T) {
 		}
 	}
 }
+
+// TestStagesMinStep: a round default step finer than MinStep is raised to
+// it, with a warning, so a section only millimetres deep still gets a table
+// whose stages differ by at least MinStep; no default stage lies closer
+// than MinStep to an end. The counts are by hand: a range of 0.002 in
+// steps of 0.0001 holds 21 stages, ends included (0.002/0.0001 + 1); the
+// round step over it would be 0.002/50 = 4e-5, rounded up to 5e-5.
+func TestStagesMinStep(t *testing.T) {
+	const minStep = 1e-4
+	const slack = 1e-9 // relative round-off of a difference of stages
+	shallow := func(depth float64) subdivide.Geometry {
+		p, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 10+depth, 1, 10, 2, 10, 3, 10+depth), N: []float64{0.03, 0.03, 0.03}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	deep, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 5, 10, 0, 20, 5), N: []float64{0.03, 0.03}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name  string
+		g     subdivide.Geometry
+		spec  rating.StageSpec
+		rows  int  // stages laid out
+		warn  bool // the step was raised
+		first float64
+		last  float64
+	}{
+		{"shallow section", shallow(0.002), rating.StageSpec{MinStep: minStep}, 21, true, 10, 10.002},
+		// The top, 10.00204, is 4e-5 above the multiple 10.002: that stage
+		// is dropped (it would be written as the top is, 10.002).
+		{"top just above a multiple", shallow(0.00204), rating.StageSpec{MinStep: minStep}, 21, true, 10, 10.00204},
+		{"narrow range asked for", deep, rating.StageSpec{From: 1, To: 1.001, FromSet: true, ToSet: true, MinStep: minStep}, 11, true, 1, 1.001},
+		// A round step of 0.1 over 0 to 5 m: 51 stages, nothing raised.
+		{"deep section", deep, rating.StageSpec{MinStep: minStep}, 51, false, 0, 5},
+		// Without MinStep the old layout: 0.002/5e-5 + 1 = 41 stages.
+		{"no bound", shallow(0.002), rating.StageSpec{}, 41, false, 10, 10.002},
+		// A given step is used as given.
+		{"given step", deep, rating.StageSpec{From: 1, To: 1.001, FromSet: true, ToSet: true, Step: 5e-5, MinStep: minStep}, 21, false, 1, 1.001},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			st, warn, err := c.spec.StagesWarn(c.g)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(st) != c.rows || st[0] != c.first || st[len(st)-1] != c.last {
+				t.Errorf("%d stages from %g to %g, want %d from %g to %g: %v", len(st), st[0], st[len(st)-1], c.rows, c.first, c.last, st)
+			}
+			if got := len(warn) == 1 && strings.Contains(warn[0], "laid out 0.0001 apart"); got != c.warn || len(warn) > 1 {
+				t.Errorf("warnings %q, want a raised step %v", warn, c.warn)
+			}
+			if c.spec.MinStep > 0 && c.spec.Step == 0 {
+				for i := 1; i < len(st); i++ {
+					if st[i]-st[i-1] < minStep*(1-slack) {
+						t.Errorf("stages %g and %g are closer than %g", st[i-1], st[i], minStep)
+					}
+				}
+			}
+			plain, err := c.spec.Stages(c.g)
+			if err != nil || !slices.Equal(plain, st) {
+				t.Errorf("Stages gives %v (%v), StagesWarn %v", plain, err, st)
+			}
+		})
+	}
+}

@@ -320,11 +320,10 @@ func SuggestedCoordinateMarks() []string {
 	return []string{MarkLeftPin, MarkRightPin, MarkBank, "thalweg", "water edge", "high-water mark"}
 }
 
-// suggestedStructures returns the words offered in the reach sheet's
-// structure column: the kinds of structure of StructureWords and "none"
-// (the reader takes the other words of StructureWords and
-// OpenChannelWords too).
-func suggestedStructures() []string { return []string{"bridge", "culvert", "weir", "dam", "none"} }
+// structureWords returns the words the reach sheet's structure column
+// takes: exactly those the reach reader takes (StructureWords, then
+// OpenChannelWords); a blank cell, an open channel, is taken too.
+func structureWords() []string { return append(StructureWords(), OpenChannelWords()...) }
 
 func reachColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
@@ -344,7 +343,7 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("left overbank")},
 		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("main channel")},
 		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("right overbank")},
-		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(suggestedStructures(), false, ""),
+		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(structureWords(), true, ErrStructureWord.Error()),
 			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: backwater refuses to compute flow through it and slopearea warns of it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}

@@ -805,3 +805,40 @@ func columnRule(t *testing.T, f *excelize.File, sheet, col string) *excelize.Dat
 	t.Fatalf("no rule on column %s of %s", col, sheet)
 	return nil
 }
+
+// TestTemplateStructureRule: the reach sheet's structure column offers
+// exactly the words the reach reader takes and stops any other (a word the
+// reader refuses could otherwise be typed and saved), with the reader's
+// own message; each word offered reads back through the reach reader.
+func TestTemplateStructureRule(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Sections: 1, Rows: 10})
+	f := openBook(t, path)
+	dv := columnRule(t, f, survey.FieldSheetReach, "J")
+	words := append(survey.StructureWords(), survey.OpenChannelWords()...)
+	if want := `"` + strings.Join(words, ",") + `"`; dv.Type != "list" || dv.Formula1 != want {
+		t.Errorf("rule %s %s, want the list %s", dv.Type, dv.Formula1, want)
+	}
+	if !dv.ShowErrorMessage || dv.ErrorStyle == nil || *dv.ErrorStyle != "stop" {
+		t.Errorf("error alert %v, style %v: want a stop alert", dv.ShowErrorMessage, dv.ErrorStyle)
+	}
+	if dv.Error == nil || *dv.Error != survey.ErrStructureWord.Error() {
+		t.Errorf("error message %v, want the reader's %q", dv.Error, survey.ErrStructureWord.Error())
+	}
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "xs.csv"), []byte("station,elevation,n\n0,2,0.03\n5,0,0.03\n10,2,\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	offered := strings.Split(strings.Trim(dv.Formula1, `"`), ",")
+	var b strings.Builder
+	b.WriteString("section,survey,distance,structure\n")
+	for i, w := range offered {
+		fmt.Fprintf(&b, "S%d,xs.csv,%d,%s\n", i, 10*i, w)
+	}
+	reach := filepath.Join(dir, "reach.csv")
+	if err := os.WriteFile(reach, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := survey.ReadReachWith(reach, "", survey.ReachOptions{MarksOptional: true}); err != nil {
+		t.Errorf("the words offered do not all read back: %v", err)
+	}
+}

@@ -65,6 +65,8 @@ func (f *backwaterFlags) register(fs *flagSet) {
 		"for plot and fit --hydraulic-rating), json or xlsx (a results workbook; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the reach profile and the rating figures (PNG) into this folder")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 	fs.StringVar(&f.site, "site", "", siteUsage)
 	fs.BoolVar(&f.anywhere, "surveys-anywhere", false, "let the reach table name survey files outside its own folder")
 	f.coords.register(fs, false)

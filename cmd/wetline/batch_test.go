@@ -330,3 +330,62 @@ func TestBatchFieldTemplate(t *testing.T) {
 		t.Errorf("blank workbook: exit %d, %d lines:\n%s", code, strings.Count(stdout, "\n"), errs)
 	}
 }
+
+// TestRateDefaultStepRaised: a default step finer than the 4 decimals
+// stages are written to is raised to 0.0001 with a warning, in a batch
+// (per section) as in a single run, so a section 2 mm deep gets a table
+// of 21 stages (0.002/0.0001 + 1, by hand), each written apart.
+func TestRateDefaultStepRaised(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	in := filepath.Join(dir, "in")
+	if err := os.Mkdir(in, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	shallow := filepath.Join(in, "shallow.csv")
+	if err := os.WriteFile(shallow, []byte("station,elevation,n\n0,10.002,0.03\n1,10,0.03\n2,10,0.03\n3,10.002,\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(in, "deep.csv"), []byte(surveyCSV(0)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const note = "laid out 0.0001 apart instead (21 rows)"
+	stagesApart := func(t *testing.T, table string) {
+		t.Helper()
+		recs := readCSV(t, table)
+		if len(recs) != 22 {
+			t.Errorf("%s: %d rows, want a header and 21 stages", table, len(recs))
+		}
+		seen := map[string]bool{}
+		for _, r := range recs[1:] {
+			if seen[r[0]] {
+				t.Errorf("%s: stage %s written twice", table, r[0])
+			}
+			seen[r[0]] = true
+		}
+	}
+
+	out := filepath.Join(dir, "out")
+	_, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", out)
+	if code != 0 {
+		t.Fatalf("batch: exit %d: %s", code, errs)
+	}
+	stagesApart(t, filepath.Join(out, "shallow.csv"))
+	index, err := os.ReadFile(filepath.Join(out, "index.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Count(string(index), note) != 1 {
+		t.Errorf("the index does not warn once of the raised step:\n%s", index)
+	}
+
+	one := filepath.Join(dir, "shallow-rating.csv")
+	_, errs, code = runCLI(t, "rate", shallow, "--slope", "0.001", "-o", one)
+	if code != 0 {
+		t.Fatalf("single run: exit %d: %s", code, errs)
+	}
+	stagesApart(t, one)
+	if !strings.Contains(errs, "warning: the stage range from 10 to 10.002 is too short for about 50 rows") || !strings.Contains(errs, note) {
+		t.Errorf("single run: no warning of the raised step:\n%s", errs)
+	}
+}

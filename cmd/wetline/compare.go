@@ -51,6 +51,8 @@ func (f *compareFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the comparison figure (PNG) into this folder")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 	fs.StringVar(&f.site, "site", "", siteUsage)
 }
 

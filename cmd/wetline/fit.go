@@ -67,14 +67,17 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.gaugingSheet, "gaugings-sheet", "", "workbook sheet holding the gaugings (default: a sheet named gaugings, else the first)")
 	fs.StringVar(&f.section, "section", "", "surveyed section at the gauge: hydraulic rating, n back-calculation, extension and prior")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope of the hydraulic rating (needed with --section)")
+	fs.notGiven("slope")
 	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
 	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first visible sheet)")
 	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
+	fs.notGiven("datum")
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
 	fs.BoolVar(&f.compareOnly, "compare-only", false, "compare the gaugings with the hydraulic rating and fit nothing")
 	fs.StringVar(&f.method, "method", "bayes", "how the rating is fitted: bayes (Bayesian, priors from the survey) or lsq (weighted least squares)")
 	fs.IntVar(&f.controls, "controls", 0, fmt.Sprintf("number of controls, 1 to %d, each Q = A·(h − B)^C with its own offset (default 1, or one more than --breaks; a Bayesian fit on a section whose overbanks flow below the table's top adds a floodplain control at the bank stage unless --controls, --breaks, --kinds, --joints or --control-section is given)", gauged.MaxControls))
 	fs.IntVar(&f.segments, "segments", 0, "the same as --controls (the name of earlier versions)")
+	fs.notGiven("segments")
 	fs.Var(&f.breaks, "breaks", "given breakpoints (gauge heights), comma-separated, instead of fitted ones")
 	fs.StringVar(&f.kinds, "kinds", "", "what each control is, comma-separated: section (riffle, weir crest), channel or unknown (default: channel with a section or hydraulic rating, section for the first with --control-section, else unknown)")
 	fs.StringVar(&f.joints, "joints", "", "how each control above the first joins the one below, comma-separated: replace (takes over) or add (a floodplain adding to the channel); default replace")
@@ -89,13 +92,15 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
 	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file)")
 	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
-	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day; default UTC)")
+	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default: UTC, and a time written with an offset keeps it)")
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, bands, posterior, lookup sheet and figure; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings and both bands (PNG) into this folder")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 }
 
 func runFit(ctx context.Context, e *env, args []string) error {
@@ -309,6 +314,7 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 		return opt, err
 	}
 	opt.Controls.Selection = sel
+	opt.UTCOffset = time.Duration(f.offset) // reports give times at it
 	opt.Floodplain = f.controlSection == ""
 	for _, name := range []string{"controls", "segments", "breaks", "kinds", "joints"} {
 		opt.Floodplain = opt.Floodplain && !fs.Changed(name)
@@ -504,7 +510,7 @@ func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Opti
 	}
 	span := "none of them has a time"
 	if !first.IsZero() {
-		span = fmt.Sprintf("they run from %s to %s", first.Format(time.RFC3339), last.Format(time.RFC3339))
+		span = fmt.Sprintf("they run from %s to %s", gauged.TimeText(first, opt.UTCOffset), gauged.TimeText(last, opt.UTCOffset))
 	}
 	return fmt.Errorf("fit: --period %s: none of the %d gaugings of %s falls in it (%s): %w", strings.TrimSpace(f.period), len(gs), path, span, gauged.ErrFewGaugings)
 }

@@ -1,9 +1,18 @@
 package main
 
 import (
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/xuri/excelize/v2"
+
+	"wetline/survey/results"
 )
 
 // An empty --period, one holding none of the gaugings (for a fit or a
@@ -87,5 +96,103 @@ func TestFitOffsetFlag(t *testing.T) {
 	_, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--utc-offset", "ten")
 	if code != 2 || !strings.Contains(errs, "utc-offset") {
 		t.Errorf("exit %d, stderr %q; want 2 naming --utc-offset", code, errs)
+	}
+}
+
+// TestFitReportsAtOffset: with --utc-offset every report of fit gives the
+// gaugings' times at that offset (RFC 3339 with it in text, CSV and JSON;
+// the wall clock there in a workbook's date cells, the summary naming the
+// zone), whatever offset each was written with; without it each time keeps
+// the offset it was written with. By hand: 09:00 written without an offset
+// is 09:00+10:00; 00:00Z is 10:00+10:00; 12:00−05:00 is 17:00Z, 03:00+10:00
+// the next day.
+func TestFitReportsAtOffset(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("time,gauge_height,discharge,quality\n")
+	times := []string{"2025-07-31T09:00", "2025-08-01T00:00Z", "2025-08-02T12:00-05:00", "2025-08-03T09:00", "2025-08-04T09:00", "2025-08-05T09:00"}
+	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
+		fmt.Fprintf(&b, "%s,%g,%.6g,good\n", times[i], h, 8*math.Pow(h-0.3, 2)) // an invented power law
+	}
+	gaugings := filepath.Join(dir, "gaugings.csv")
+	if err := os.WriteFile(gaugings, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	local := []string{"2025-07-31T09:00:00+10:00", "2025-08-01T10:00:00+10:00", "2025-08-03T03:00:00+10:00"}
+	asRead := []string{"2025-07-31T09:00:00Z", "2025-08-01T00:00:00Z", "2025-08-02T12:00:00-05:00"}
+	fit := func(extra ...string) string {
+		t.Helper()
+		out, errs, code := runCLI(t, append([]string{"fit", gaugings}, extra...)...)
+		if code != 0 {
+			t.Fatalf("fit %v: exit %d: %s", extra, code, errs)
+		}
+		return out
+	}
+	compare := []string{"--hydraulic-rating", fitDemoRatingTable, "--datum", "100", "--compare-only", "--format", "csv"}
+	for _, tc := range []struct {
+		name string
+		out  string
+		want []string
+	}{
+		{"text", fit("--method", "lsq", "--utc-offset", "+10:00"), append([]string{"6 measurements, si units; times in UTC+10:00"}, local...)},
+		{"csv", fit(append(compare, "--utc-offset", "+10:00")...), local},
+		{"json", fit("--method", "lsq", "--utc-offset", "+10:00", "--format", "json"), local},
+		{"text as read", fit("--method", "lsq"), asRead},
+		{"csv as read", fit(compare...), asRead},
+	} {
+		for _, w := range tc.want {
+			if !strings.Contains(strings.ReplaceAll(tc.out, " ", ""), strings.ReplaceAll(w, " ", "")) {
+				t.Errorf("%s: no %s in\n%s", tc.name, w, tc.out)
+			}
+		}
+		if strings.HasSuffix(tc.name, "as read") && strings.Contains(tc.out, "+10:00") {
+			t.Errorf("%s: a time at +10:00 without --utc-offset", tc.name)
+		}
+	}
+
+	doc := fitJSON(t, gaugings, "--method", "lsq", "--utc-offset", "+10:00", "--exclude", "2025-08-04T09:00")
+	if got := toStrings(doc["selection"].(map[string]any)["exclude_times"]); len(got) != 1 || got[0] != "2025-08-04T09:00:00+10:00" {
+		t.Errorf("json: excluded times %q, want 2025-08-04T09:00:00+10:00", got)
+	}
+
+	book := filepath.Join(dir, "fit.xlsx")
+	if _, errs, code := runCLI(t, "fit", gaugings, "--method", "lsq", "--utc-offset", "+10:00", "-o", book); code != 0 {
+		t.Fatalf("workbook: exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	for i, want := range []time.Time{
+		time.Date(2025, 7, 31, 9, 0, 0, 0, time.UTC), time.Date(2025, 8, 1, 10, 0, 0, 0, time.UTC), time.Date(2025, 8, 3, 3, 0, 0, 0, time.UTC),
+	} {
+		cell, _ := excelize.CoordinatesToCellName(1, i+2)
+		raw, err := f.GetCellValue(results.SheetGaugings, cell, excelize.Options{RawCellValue: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		serial, err := strconv.ParseFloat(raw, 64)
+		if err != nil {
+			t.Fatalf("%s: %q is no date serial", cell, raw)
+		}
+		got, err := excelize.ExcelDateToTime(serial, false)
+		if err != nil || !got.Round(time.Second).Equal(want) {
+			t.Errorf("%s shows %v (%v), want the wall clock %v", cell, got, err, want)
+		}
+	}
+	rows, err := f.GetRows(results.SheetSummary)
+	if err != nil {
+		t.Fatal(err)
+	}
+	zone := ""
+	for _, r := range rows {
+		if len(r) > 1 && r[0] == "times in" {
+			zone = r[1]
+		}
+	}
+	if zone != "UTC+10:00" {
+		t.Errorf("summary: times in %q, want UTC+10:00", zone)
 	}
 }

@@ -12,6 +12,7 @@ import (
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/survey/output"
 )
 
 // flagSet is a subcommand's flags with its usage line.
@@ -53,7 +54,77 @@ func (fs *flagSet) parse(e *env, args []string) error {
 			bad = usagef("%s: --%s %s: want a finite number", fs.Name(), f.Name, f.Value.String())
 		}
 	})
-	return bad
+	if bad != nil {
+		return bad
+	}
+	return fs.distinctOutputs()
+}
+
+// Kinds of path an output flag names (see output).
+const (
+	outputFile   = "file"   // a file written whole
+	outputFolder = "folder" // a folder files are written into
+	outputEither = "either" // a file or a folder, by the run (rate's -o)
+)
+
+// outputKey is the flag annotation holding an output flag's kind.
+const outputKey = "wetline/output"
+
+// output marks the flags names as naming outputs of kind (outputFile,
+// outputFolder or outputEither): parse refuses two of them that name one
+// path (distinctOutputs).
+func (fs *flagSet) output(kind string, names ...string) { fs.annotate(outputKey, kind, names...) }
+
+// annotate sets the annotation key to value on each flag of names.
+func (fs *flagSet) annotate(key, value string, names ...string) {
+	for _, n := range names {
+		if err := fs.SetAnnotation(n, key, []string{value}); err != nil {
+			panic(err) // a flag registered under another name: a defect
+		}
+	}
+}
+
+// flagWords names a flag as a user types it: -o for the output, else
+// --name.
+func flagWords(f *pflag.Flag) string {
+	if f.Shorthand != "" {
+		return "-" + f.Shorthand
+	}
+	return "--" + f.Name
+}
+
+// distinctOutputs refuses, as a usage error naming both flags, two output
+// flags (marked with output) given paths that name the same file or
+// folder, after cleaning and through symbolic links (output.SamePath), or
+// a path inside another flag's path that is written as a file. Standard
+// output (-) and flags not given are passed over.
+func (fs *flagSet) distinctOutputs() error {
+	type dest struct {
+		flag, path, kind string
+	}
+	var outs []dest
+	fs.VisitAll(func(f *pflag.Flag) {
+		kind := f.Annotations[outputKey]
+		if len(kind) == 0 || !f.Changed {
+			return
+		}
+		if p := f.Value.String(); p != "" && p != "-" {
+			outs = append(outs, dest{flagWords(f), p, kind[0]})
+		}
+	})
+	for i, a := range outs {
+		for _, b := range outs[i+1:] {
+			if output.SamePath(a.path, b.path) {
+				return usagef("%s: %s %s and %s %s name the same path: give each output its own", fs.Name(), a.flag, a.path, b.flag, b.path)
+			}
+			for _, file := range [][2]dest{{a, b}, {b, a}} {
+				if out, in := file[0], file[1]; out.kind == outputFile && output.Inside(in.path, out.path) {
+					return usagef("%s: %s %s lies inside %s %s, which is written as a file: give each output its own path", fs.Name(), in.flag, in.path, out.flag, out.path)
+				}
+			}
+		}
+	}
+	return nil
 }
 
 // help prints the usage line and the flags, and returns errHelp.
@@ -73,8 +144,11 @@ func (fs *flagSet) help(w io.Writer) error {
 		}
 		def := ""
 		switch {
-		case f.DefValue == "" || f.DefValue == "false" || f.DefValue == "0" || f.DefValue == "[]" || f.DefValue == "NaN":
+		case f.DefValue == "" || f.DefValue == "false" || f.DefValue == "[]" || f.DefValue == "NaN":
 		case strings.Contains(f.Usage, "default:"): // the usage says the default in words
+		case (f.DefValue == "0" || f.DefValue == "0s") && (!isNumber(f) || strings.Contains(f.Usage, "default") || f.Annotations[notGivenKey] != nil):
+			// a zero standing for a default said in words, for "not given",
+			// or of a value that is no number (an offset: UTC)
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
@@ -84,6 +158,22 @@ func (fs *flagSet) help(w io.Writer) error {
 		return err
 	}
 	return errHelp
+}
+
+// notGivenKey is the flag annotation of a number flag whose zero default
+// stands for "not given" (see notGiven).
+const notGivenKey = "wetline/not-given"
+
+// notGiven marks number flags whose zero default is no value but "not
+// given" (a required slope, a datum whose presence changes the report), so
+// help shows no default for them. Every other zero default is a value
+// help states, as "(default 0)", unless the usage says the default in
+// words.
+func (fs *flagSet) notGiven(names ...string) { fs.annotate(notGivenKey, "true", names...) }
+
+// isNumber reports whether a flag takes a number or a duration.
+func isNumber(f *pflag.Flag) bool {
+	return argName(f.Value.Type()) == "NUM" || f.Value.Type() == "duration"
 }
 
 // argName names a flag's argument in help by its type.

@@ -153,7 +153,7 @@ func TestBadInputs(t *testing.T) {
 		// ones would be written as repeats that plot and fit refuse.
 		{"step finer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101", "--to", "101.001", "--step", "0.00001"}, 2, "--step 1e-05 is finer than the table's stages are written (4 decimals)"},
 		{"stages closer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--stages", "101,101.00001"}, 2, "--stages: stages closer than the table's precision: 101 and 101.00001 would both be written 101"},
-		{"default step finer than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101", "--to", "101.001"}, 2, "--from/--to: the default step is too fine"},
+		{"range shorter than written", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101", "--to", "101.00004"}, 2, "the range is shorter than the table's precision"},
 		{"step written alike from a half", []string{"rate", demoSurveyPath, "--slope", "0.001", "--from", "101.00005", "--to", "101.001", "--step", "0.0001"}, 2, "--step: stages closer"},
 	}
 	for _, c := range cases {

@@ -31,6 +31,7 @@ func (f *plotFlags) register(fs *flagSet) {
 	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first visible sheet)")
 	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")
 	fs.Float64Var(&f.datum, "datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
+	fs.notGiven("datum")
 	fs.IntVar(&f.width, "width", plotting.DefaultWidth, "figure width in pixels")
 	fs.IntVar(&f.height, "height", plotting.DefaultHeight, "figure height in pixels")
 	fs.IntVar(&f.dpi, "dpi", plotting.DefaultDPI, "figure resolution in dots per inch (text keeps its size in points)")

@@ -24,6 +24,8 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	format := fs.String("format", "", "output format: csv (a survey every command reads) or json (default: from the -o extension, else csv)")
 	out := fs.StringP("output", "o", "", "output file (.csv or .json; default: standard output)")
 	plots := fs.String("plots", "", "folder for the plan figure (PNG)")
+	fs.output(outputFile, "output")
+	fs.output(outputFolder, "plots")
 	site := fs.String("site", "", siteUsage)
 	if err := fs.parse(e, args); err != nil {
 		return err

@@ -34,6 +34,7 @@ const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHAN
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope (m/m or ft/ft), required")
+	fs.notGiven("slope")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
 	fs.Float64Var(&f.step, "step", math.NaN(), "stage step, at least 0.0001 (stages are written to 4 decimals; default: a round step giving about 50 rows)")
@@ -42,6 +43,8 @@ func (f *rateFlags) register(fs *flagSet) {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	f.calib.register(fs)
 	fs.StringVar(&f.plots, "plots", "", "also write the rating, section and properties figures (PNG) into this folder")
+	fs.output(outputEither, "output") // a folder for a batch
+	fs.output(outputFolder, "plots")
 	fs.BoolVar(&f.allSheets, "all-sheets", false, "rate every sheet of a workbook that holds a survey (a station and an elevation column)")
 	fs.BoolVar(&f.long, "long", false, "with several surveys (files, folders, --all-sheets) -o names a folder for one table per section and an index; --long writes one long CSV table with a section column instead (to -o FILE or standard output)")
 }
@@ -85,12 +88,14 @@ func stagesApart(fs *flagSet, stages []float64) error {
 	case fs.Changed("step"):
 		return usageError{err: fmt.Errorf("rate: --step: %w", err)}
 	}
-	return usageError{err: fmt.Errorf("rate: --from/--to: the default step is too fine for this range: %w; give --step %g or more", err, results.LengthResolution)}
+	return usageError{err: fmt.Errorf("rate: the range is shorter than the table's precision, so its default stages are written alike: %w; give a wider --from/--to range", err)}
 }
 
-// stageSpec returns the stages asked for.
+// stageSpec returns the stages asked for; a default step is never finer
+// than the table writes its stages (rating.StageSpec.MinStep).
 func (f *rateFlags) stageSpec(fs *flagSet) rating.StageSpec {
-	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum}
+	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum,
+		MinStep: results.LengthResolution}
 	if fs.Changed("step") {
 		spec.Step = f.step
 	}
@@ -163,7 +168,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err := f.calib.apply(fs, p, opt); err != nil {
 		return rating.RatingReport{}, err
 	}
-	stages, err := f.stageSpec(fs).Stages(p.Geometry)
+	stages, stageWarnings, err := f.stageSpec(fs).StagesWarn(p.Geometry)
 	if err != nil && fs.Changed("step") {
 		err = tooFineStep("rate", f.step, p.Units, err)
 	}
@@ -189,7 +194,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	}
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
 	rep.Ground = p.Ground
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = append(append(append([]string(nil), p.Warnings...), stageWarnings...), rep.Warnings...)
 	return rep, nil
 }
 

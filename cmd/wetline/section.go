@@ -214,6 +214,7 @@ func (c *calibrateFlags) register(fs *flagSet) {
 	fs.StringVar(&c.gaugings, "calibrate", "", "gaugings file: scale n by the factor that best fits them (least squares in ln Q)")
 	fs.StringVar(&c.sheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
 	fs.Float64Var(&c.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: stages (and gaugings) are then gauge heights, elevation = gauge height + DATUM")
+	fs.notGiven("datum")
 	fs.BoolVar(&c.channelOnly, "channel-only", false, "with --calibrate: scale only the main channel's n")
 }
 

@@ -38,6 +38,8 @@ func (f *shiftsFlags) register(fs *flagSet) {
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the figures of shift against time and against stage (PNG) into this folder")
+	fs.output(outputFile, "output", "proposed")
+	fs.output(outputFolder, "plots")
 	fs.StringVar(&f.site, "site", "", siteUsage)
 }
 
@@ -60,9 +62,6 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	}
 	if ext := strings.ToLower(filepath.Ext(f.proposed)); f.proposed != "" && ext != ".csv" {
 		return usagef("shifts: --proposed %s: the proposed diagrams are written as CSV: name the file .csv", f.proposed)
-	}
-	if f.proposed != "" && f.proposed == f.output {
-		return usagef("shifts: --proposed and -o name the same file %s", f.proposed)
 	}
 	c, err := f.check(fs, fs.Arg(0))
 	if err != nil {

@@ -140,7 +140,7 @@ func TestShiftsRefusals(t *testing.T) {
 		want string
 	}{
 		{"proposed not csv", shiftsArgs("--proposed", filepath.Join(dir, "p.txt")), 2, "name the file .csv"},
-		{"proposed is output", shiftsArgs("--proposed", filepath.Join(dir, "p.csv"), "-o", filepath.Join(dir, "p.csv")), 2, "same file"},
+		{"proposed is output", shiftsArgs("--proposed", filepath.Join(dir, "p.csv"), "-o", filepath.Join(dir, "p.csv")), 2, "name the same path"},
 		{"no gaugings", []string{"shifts", "--rating", recRatingA}, 2, "one GAUGINGS file"},
 		{"negative visit gap", shiftsArgs("--visit-gap", "-1h"), 2, "--visit-gap"},
 		{"valid_from and @", []string{"shifts", recGaugings, "--rating", "testdata/record/periods.csv@2024-05-01"}, 2, "valid_from"},

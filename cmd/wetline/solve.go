@@ -27,6 +27,7 @@ func (f *solveFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.q.Area, "area", math.NaN(), "flow area to find the stage of (instead of --discharge)")
 	fs.Float64Var(&f.q.Stage, "stage", math.NaN(), "stage to find the critical (and, with --slope, uniform-flow) discharge at")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for the normal stage (m/m or ft/ft)")
+	fs.notGiven("slope")
 	fs.StringVar(&f.format, "format", "", "output format: text or json (default: from the -o extension, else text)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 }

@@ -858,7 +858,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 			fitted = append(fitted, g)
 		}
 	}
-	f.Warnings = append(f.Warnings, zeroFlowConflicts(fitted, f.Rating.Controls[0].B, f.OffsetSource, f.Units)...)
+	f.Warnings = append(f.Warnings, zeroFlowConflicts(fitted, f.Rating.Controls[0].B, f.OffsetSource, f.Units, sel.UTCOffset)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -877,7 +877,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 // discharge counts as above e only where the message would write the two
 // heights apart (ghDecimals); gaugings whose stage or discharge is not a
 // finite number are passed over.
-func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units) []string {
+func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units, offset time.Duration) []string {
 	L, Q := u.Length(), u.Discharge()
 	var out []string
 	for _, g := range gs {
@@ -886,7 +886,7 @@ func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units) [
 		}
 		name := g.label()
 		if !g.Time.IsZero() {
-			name += " (" + g.Time.Format(time.RFC3339) + ")"
+			name += " (" + TimeText(g.Time, offset) + ")"
 		}
 		switch {
 		case g.Discharge == 0 && g.Stage > e && gh(g.Stage) != gh(e):

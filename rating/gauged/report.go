@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"time"
 
 	"gonum.org/v1/gonum/stat/distuv"
 
@@ -64,6 +65,10 @@ type Options struct {
 	// above the gaugings follows the floodplain instead of one power law.
 	// Given breakpoints turn it off.
 	Floodplain bool
+	// UTCOffset is the offset from UTC (east positive) at which reports and
+	// warnings write the times of gaugings (TimeText); zero writes each as
+	// read.
+	UTCOffset time.Duration
 }
 
 // CurvePoint is the hydraulic rating at one gauge height.
@@ -155,6 +160,9 @@ type Report struct {
 	// first offset to the table's top (see Options.Lookup), without bands;
 	// nil when not asked for.
 	Lookup []ControlRow
+	// UTCOffset is Options.UTCOffset: reports write the times of gaugings
+	// at it (TimeText).
+	UTCOffset time.Duration
 	// Provenance says what the report was computed from.
 	Provenance rating.Provenance
 	// Figures are the report's pictures (none until drawn).
@@ -219,9 +227,10 @@ var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's
 //	estimation of hydrometric rating curves: a Bayesian approach.
 //	Journal of Hydrology 509, 573–587.
 func Analyze(gs []Gauging, opt Options) (*Report, error) {
+	opt.Controls.Selection.UTCOffset = opt.UTCOffset
 	ref := referenceOf(opt.Hydraulic, opt.HydraulicTable)
 	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
-		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN(), DatumGiven: opt.DatumGiven}
+		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN(), DatumGiven: opt.DatumGiven, UTCOffset: opt.UTCOffset}
 	if !ref.ok() && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
 	}

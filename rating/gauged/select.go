@@ -19,6 +19,20 @@ type Selection struct {
 	From, To time.Time
 	// Exclude lists times of gaugings to leave out (time.Time.Equal).
 	Exclude []time.Time
+	// UTCOffset is the offset from UTC (east positive) at which warnings
+	// write times (TimeText); it plays no part in choosing, as times are
+	// instants. Analyze sets it from Options.UTCOffset.
+	UTCOffset time.Duration
+}
+
+// TimeText writes t as RFC 3339 at offset from UTC (east positive); a zero
+// offset, none chosen, writes t with the offset it was read with (Z for
+// UTC).
+func TimeText(t time.Time, offset time.Duration) string {
+	if offset != 0 {
+		t = t.In(zone(offset))
+	}
+	return t.Format(time.RFC3339)
 }
 
 // Reasons a gauging is left out, as shown in reports.
@@ -117,7 +131,7 @@ func selectGaugings(gs []Gauging, sel Selection) (*data, []string, []string, err
 			hit = hit || g.Time.Equal(t)
 		}
 		if !hit {
-			warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", t.Format(time.RFC3339)))
+			warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", TimeText(t, sel.UTCOffset)))
 		}
 	}
 	sort.SliceStable(use, func(a, b int) bool { return use[a].h < use[b].h })

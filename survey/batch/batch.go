@@ -205,7 +205,10 @@ type Options struct {
 	// Request holds the overrides of every section (n, banks, units,
 	// composite roughness).
 	Request survey.SectionRequest
-	// Stages asks for the stages of every table.
+	// Stages asks for the stages of every table. Its MinStep is at least
+	// results.LengthResolution: a default step worked out for a section is
+	// never finer than its table writes stages (the section's warnings say
+	// when it was raised).
 	Stages rating.StageSpec
 	// Rating holds the slope and wetting options (its Units is replaced by
 	// each section's, resolved as Prepare resolves it).
@@ -256,7 +259,10 @@ const SkippedNote = "a header and no survey rows"
 
 // Rate reads and rates one job. A survey with a header and no rows is
 // skipped (Entry.Skipped), not failed: a field workbook holds blank
-// cross-section sheets until the crew fills them.
+// cross-section sheets until the crew fills them. A section whose stages
+// its table would write alike (results.ErrStagesAlike: a range shorter
+// than results.LengthResolution, or a given step or list that fine)
+// fails.
 func Rate(j Job, opt Options) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
@@ -282,7 +288,14 @@ func Rate(j Job, opt Options) Result {
 	if opt.ReadOnly {
 		return Result{Entry: en, units: units}
 	}
-	stages, err := opt.Stages.Stages(p.Geometry)
+	// A default step is never finer than the tables write their stages;
+	// a range shorter than that is refused, as a table of repeated stages.
+	spec := opt.Stages
+	spec.MinStep = math.Max(spec.MinStep, results.LengthResolution)
+	stages, stageWarnings, err := spec.StagesWarn(p.Geometry)
+	if err == nil {
+		err = results.CheckStagesApart(stages)
+	}
 	if err != nil {
 		return fail(err)
 	}
@@ -293,7 +306,7 @@ func Rate(j Job, opt Options) Result {
 		return fail(err)
 	}
 	t.Name = j.Name
-	en.Rows, en.Warnings = len(t.Rows), append(append([]string(nil), p.Warnings...), t.Warnings...)
+	en.Rows, en.Warnings = len(t.Rows), append(append(append([]string(nil), p.Warnings...), stageWarnings...), t.Warnings...)
 	en.StageMin, en.StageMax, _ = t.StageRange()
 	if hb, ok := p.Ground.Section.Bankfull(); ok {
 		en.BankfullStage = hb

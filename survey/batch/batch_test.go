@@ -715,3 +715,45 @@ func TestListHiddenSheets(t *testing.T) {
 		}
 	}
 }
+
+// TestRateShallowSection: a section only millimetres deep, rated at its
+// default stages, gets a table whose stages are at least 0.0001 apart (the
+// precision tables are written to; the round step over its 2 mm would be
+// 5e-5) and a warning saying so; one shallower than 0.0001 fails, as its
+// table would write its stages alike. 0.002/0.0001 + 1 = 21 stages (by
+// hand).
+func TestRateShallowSection(t *testing.T) {
+	dir := t.TempDir()
+	shallow := filepath.Join(dir, "shallow.csv")
+	writeFile(t, shallow, "station,elevation,n\n0,10.002,0.03\n1,10,0.03\n2,10,0.03\n3,10.002,\n")
+	flat := filepath.Join(dir, "flat.csv")
+	writeFile(t, flat, "station,elevation,n\n0,10.00004,0.03\n1,10,0.03\n2,10,0.03\n3,10.00004,\n")
+	opt := batch.Options{Rating: rating.Options{Slope: 0.001}}
+
+	r := batch.Rate(batch.Job{Path: shallow, Name: "shallow"}, opt)
+	if r.Entry.Err != "" {
+		t.Fatal(r.Entry.Err)
+	}
+	var stages []float64
+	for _, row := range r.Table.Rows {
+		stages = append(stages, row.Stage)
+	}
+	if len(stages) != 21 {
+		t.Errorf("%d stages, want 21: %v", len(stages), stages)
+	}
+	if err := results.CheckStagesApart(stages); err != nil {
+		t.Error(err)
+	}
+	raised := false
+	for _, w := range r.Entry.Warnings {
+		raised = raised || strings.Contains(w, "laid out 0.0001 apart instead (21 rows)")
+	}
+	if !raised {
+		t.Errorf("no warning of the raised step among %q", r.Entry.Warnings)
+	}
+
+	r = batch.Rate(batch.Job{Path: flat, Name: "flat"}, opt)
+	if !strings.Contains(r.Entry.Err, "would both be written 10") || len(r.Table.Rows) != 0 {
+		t.Errorf("a section 0.00004 deep: error %q with %d rows, want stages written alike", r.Entry.Err, len(r.Table.Rows))
+	}
+}

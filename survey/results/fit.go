@@ -31,8 +31,9 @@ func ComparisonColumns() []string {
 }
 
 // GaugingTimeLayout is how gauging times are written: RFC 3339 with the
-// gauging's own UTC offset (Z for UTC), the form --period and --exclude
-// take, so that times of different offsets stay comparable.
+// report's UTC offset when one was chosen (gauged.Report.UTCOffset), else
+// with the gauging's own (Z for UTC), the form --period and --exclude take,
+// so that times of different offsets stay comparable (gauged.TimeText).
 const GaugingTimeLayout = time.RFC3339
 
 // WriteFitCSV writes the table of a fit (FitTableColumns()), or, in
@@ -54,7 +55,7 @@ func WriteFitCSV(w io.Writer, r *gauged.Report) error {
 	}
 	writeRecord(bw, ComparisonColumns())
 	for i, g := range r.Gaugings {
-		rec := []string{g.Time.Format(GaugingTimeLayout), FormatFloat(g.Stage), FormatFloat(g.Discharge), g.Quality.String()}
+		rec := []string{gauged.TimeText(g.Time, r.UTCOffset), FormatFloat(g.Stage), FormatFloat(g.Discharge), g.Quality.String()}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
 			rec = append(rec, FormatFloat(c.Fitted), FormatFloat(c.DeparturePercent), FormatFloat(c.Shift), fmt.Sprint(c.OutsideBand))
@@ -421,7 +422,7 @@ func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 // jsonGaugingOf is gauging i of the JSON report.
 func jsonGaugingOf(r *gauged.Report, i int, g gauged.Gauging) jsonGauging {
 	nan := Float(math.NaN())
-	jg := jsonGauging{Time: g.Time.Format(GaugingTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
+	jg := jsonGauging{Time: gauged.TimeText(g.Time, r.UTCOffset), Stage: Float(g.Stage), Discharge: Float(g.Discharge),
 		Quality: g.Quality.String(), Note: g.Note, Source: g.Source,
 		Fitted: nan, DeparturePercent: nan, Shift: nan, Hydraulic: nan, HydDeparture: nan, HydShift: nan,
 		Uncertainty: Float(g.UncertaintyPercent()), UncertaintyGiven: nan, LogResidual: nan, Weight: nan}
@@ -451,13 +452,13 @@ func jsonSelectionOf(r *gauged.Report) jsonSelection {
 	s := r.Selection
 	out := jsonSelection{Exclude: []string{}}
 	if !s.From.IsZero() {
-		out.From = s.From.Format(time.RFC3339)
+		out.From = gauged.TimeText(s.From, r.UTCOffset)
 	}
 	if !s.To.IsZero() {
-		out.To = s.To.Format(time.RFC3339)
+		out.To = gauged.TimeText(s.To, r.UTCOffset)
 	}
 	for _, t := range s.Exclude {
-		out.Exclude = append(out.Exclude, t.Format(time.RFC3339))
+		out.Exclude = append(out.Exclude, gauged.TimeText(t, r.UTCOffset))
 	}
 	for _, g := range r.Gaugings {
 		if s.Reason(g) != "" {
@@ -507,7 +508,11 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	if r.Site != "" {
 		title += " at " + r.Site
 	}
-	p("%s: %d measurements, %s units\n", title, len(r.Gaugings), u)
+	p("%s: %d measurements, %s units", title, len(r.Gaugings), u)
+	if r.UTCOffset != 0 {
+		p("; times in %s", zoneName(zoneOf(r.UTCOffset)))
+	}
+	p("\n")
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil && r.DatumGiven:
@@ -663,7 +668,7 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 	p("\n")
 	var reasons []string
 	for i, g := range r.Gaugings {
-		p("  %-25s %9.3f %10s %-9s %5s", g.Time.Format(GaugingTimeLayout), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
+		p("  %-25s %9.3f %10s %-9s %5s", gauged.TimeText(g.Time, r.UTCOffset), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
 		reason := ""
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
@@ -682,7 +687,7 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		}
 		if reason != "" {
 			p(" x")
-			reasons = append(reasons, fmt.Sprintf("%s: %s", g.Time.Format(GaugingTimeLayout), reason))
+			reasons = append(reasons, fmt.Sprintf("%s: %s", gauged.TimeText(g.Time, r.UTCOffset), reason))
 		}
 		p("\n")
 	}

@@ -6,6 +6,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -104,6 +105,16 @@ func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 	return b.Write(w)
 }
 
+// fitClock is a gauging's time for a date cell of a fit workbook: the wall
+// clock at the report's UTC offset when one was chosen, else the time as
+// read (a cell shows its instant in UTC).
+func fitClock(t time.Time, r *gauged.Report) time.Time {
+	if r.UTCOffset == 0 {
+		return t
+	}
+	return wallClock(t, zoneOf(r.UTCOffset))
+}
+
 // yes returns "yes" for a set flag and nil (a blank cell) otherwise.
 func yes(b bool) any {
 	if b {
@@ -138,6 +149,9 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	}
 	add("uncertainty convention", gauged.UncertaintyConvention(), "")
 	add("gaugings", len(r.Gaugings), "")
+	if r.UTCOffset != 0 {
+		add("times in", zoneName(zoneOf(r.UTCOffset)), "")
+	}
 	if f := r.Fit; f != nil {
 		fitSummaryItems(add, num, r, f)
 	} else {
@@ -270,7 +284,7 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 		if g.Uncertainty > 0 {
 			unc = g.Uncertainty
 		}
-		vals = append(vals[:0], g.Time, g.Stage, g.Discharge, g.Quality.String(), g.Note, unc, g.Exclude, g.UncertaintyPercent())
+		vals = append(vals[:0], fitClock(g.Time, r), g.Stage, g.Discharge, g.Quality.String(), g.Note, unc, g.Exclude, g.UncertaintyPercent())
 		if c := r.Comparison; c != nil {
 			res := c.Residuals[i]
 			vals = append(vals, res.Fitted, res.DeparturePercent, res.Shift, yes(res.OutsideBand))
@@ -412,7 +426,7 @@ func writeNByStageSheet(b *workbook.Book, r *gauged.Report) error {
 	pts := append([]gauged.NPoint(nil), c.Points...)
 	sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
 	for _, p := range pts {
-		if err := s.Row(p.Stage, p.Discharge, p.Rated, p.Factor, p.N, p.Subsection+1, p.Time); err != nil {
+		if err := s.Row(p.Stage, p.Discharge, p.Rated, p.Factor, p.N, p.Subsection+1, fitClock(p.Time, r)); err != nil {
 			return err
 		}
 	}

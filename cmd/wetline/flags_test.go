@@ -1,0 +1,141 @@
+package main
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// TestOutputsNameOnePath: two outputs of one run naming the same path (as
+// typed, after cleaning, or through a link), or a path inside an output
+// written as a file, are a usage error naming both flags, found before any
+// input is read or anything written; every command with more than one
+// output is held to it.
+func TestOutputsNameOnePath(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	in := filepath.Join(dir, "missing-input.csv") // never read: the flags are refused first
+	p := func(name string) string { return filepath.Join(dir, name) }
+	target := p("target.csv")
+	if err := os.WriteFile(target, []byte("kept\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	link := p("link.csv")
+	haveLink := os.Symlink(target, link) == nil
+	cases := []struct {
+		name string
+		args []string
+		want string
+		link bool
+	}{
+		{"shifts proposed and plots", []string{"shifts", in, "--rating", in, "--proposed", p("x.csv"), "--plots", p("x.csv")}, "--proposed " + p("x.csv") + " and --plots " + p("x.csv") + " name the same path", false},
+		{"shifts proposed and output cleaned", []string{"shifts", in, "--rating", in, "--proposed", p("x.csv"), "-o", dir + "/./x.csv"}, "--proposed " + p("x.csv") + " and -o " + dir + "/./x.csv name the same path", false},
+		{"shifts output and plots", []string{"shifts", in, "--rating", in, "-o", p("s.txt"), "--plots", p("s.txt")}, "-o " + p("s.txt") + " and --plots " + p("s.txt"), false},
+		{"shifts through a link", []string{"shifts", in, "--rating", in, "--proposed", link, "-o", target}, "--proposed " + link + " and -o " + target + " name the same path", true},
+		{"shifts plots inside a file", []string{"shifts", in, "--rating", in, "-o", p("s.txt"), "--plots", p("s.txt/figs")}, "--plots " + p("s.txt/figs") + " lies inside -o " + p("s.txt") + ", which is written as a file", false},
+		{"rate", []string{"rate", in, "--slope", "0.001", "-o", p("r.csv"), "--plots", p("r.csv")}, "rate: -o " + p("r.csv") + " and --plots " + p("r.csv"), false},
+		{"slopearea", []string{"slopearea", in, "-o", p("a.txt"), "--plots", p("a.txt")}, "slopearea: --plots " + p("a.txt") + " and -o " + p("a.txt") + " name the same path", false},
+		{"backwater", []string{"backwater", in, "--discharges", "1", "--boundary", "critical", "-o", p("b.txt"), "--plots", p("b.txt")}, "backwater: -o " + p("b.txt") + " and --plots " + p("b.txt") + " name the same path", false},
+		{"fit", []string{"fit", in, "-o", p("f.txt"), "--plots", p("f.txt")}, "fit: -o " + p("f.txt") + " and --plots " + p("f.txt") + " name the same path", false},
+		{"record", []string{"record", in, "--rating", in, "-o", p("c.txt"), "--plots", p("c.txt")}, "record: -o " + p("c.txt") + " and --plots " + p("c.txt") + " name the same path", false},
+		{"compare", []string{"compare", in, in, "-o", p("d.txt"), "--plots", p("d.txt")}, "compare: -o " + p("d.txt") + " and --plots " + p("d.txt") + " name the same path", false},
+		{"project", []string{"project", in, "-o", p("e.csv"), "--plots", p("e.csv")}, "project: -o " + p("e.csv") + " and --plots " + p("e.csv") + " name the same path", false},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			if c.link && !haveLink {
+				t.Skip("no symbolic links here")
+			}
+			_, errs, code := runCLI(t, c.args...)
+			if code != 2 || !strings.Contains(errs, c.want) {
+				t.Errorf("exit %d, want 2 with %q:\n%s", code, c.want, errs)
+			}
+		})
+	}
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, e := range ents {
+		names = append(names, e.Name())
+	}
+	want := "target.csv"
+	if haveLink {
+		want = "link.csv target.csv"
+	}
+	if got := strings.Join(names, " "); got != want {
+		t.Errorf("the folder holds %s, want %s", got, want)
+	}
+	if data, _ := os.ReadFile(target); string(data) != "kept\n" {
+		t.Errorf("the linked file changed: %q", data)
+	}
+}
+
+// TestOutputsApart: outputs at different paths pass the check, a report
+// inside the figures' folder included; the run goes on to read its input.
+func TestOutputsApart(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	in := filepath.Join(dir, "missing-input.csv")
+	for _, args := range [][]string{
+		{"shifts", in, "--rating", in, "--proposed", filepath.Join(dir, "p.csv"), "-o", filepath.Join(dir, "c.txt"), "--plots", filepath.Join(dir, "figs")},
+		{"fit", in, "-o", filepath.Join(dir, "figs", "fit.txt"), "--plots", filepath.Join(dir, "figs")},
+		{"rate", in, "--slope", "0.001", "-o", "-", "--plots", filepath.Join(dir, "figs")},
+	} {
+		_, errs, code := runCLI(t, args...)
+		if code != 1 || !strings.Contains(errs, "missing-input.csv") {
+			t.Errorf("%s: exit %d, want 1 for the missing input:\n%s", args[0], code, errs)
+		}
+	}
+}
+
+// TestHelpZeroDefaults: help states a zero default that is a value, as
+// "(default 0)", and none for a zero standing for "not given" (a required
+// slope, a datum whose presence changes the report) or for a default the
+// usage says in words.
+func TestHelpZeroDefaults(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		cmd, flag string
+		shown     bool
+	}{
+		{"backwater", "contraction", true},
+		{"record", "datum", true},
+		{"shifts", "datum", true},
+		{"rate", "slope", false},
+		{"rate", "datum", false},
+		{"rate", "offset-tolerance", false}, // "(default 0.5 m, 1.5 ft)" in words
+		{"solve", "slope", false},
+		{"slopearea", "slope", false},
+		{"fit", "slope", false},
+		{"fit", "datum", false},
+		{"fit", "segments", false},
+		{"fit", "controls", false}, // "(default 1, ...)" in words
+		{"fit", "utc-offset", false},
+		{"plot", "datum", false},
+		{"compare", "step", false},
+	} {
+		out, errs, code := runCLI(t, c.cmd, "--help")
+		if code != 0 {
+			t.Fatalf("%s --help: exit %d: %s", c.cmd, code, errs)
+		}
+		line := ""
+		for _, l := range strings.Split(out, "\n") {
+			if strings.HasPrefix(strings.TrimSpace(l), "--"+c.flag+" ") {
+				line = l
+			}
+		}
+		if line == "" {
+			t.Errorf("%s --help has no --%s", c.cmd, c.flag)
+			continue
+		}
+		if got := strings.HasSuffix(line, " (default 0)"); got != c.shown {
+			t.Errorf("%s --%s: default 0 shown %v, want %v:\n%s", c.cmd, c.flag, got, c.shown, line)
+		}
+		if strings.Count(line, "(default") > 1 {
+			t.Errorf("%s --%s states its default twice:\n%s", c.cmd, c.flag, line)
+		}
+	}
+}
