@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"wetline/rating/gauged"
+	"wetline/rating/record"
 )
 
 // checkPositioned fails unless err is nil or made of ParseErrors naming
@@ -36,6 +37,10 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
 	f.Add("time,stage,stage\n2024-05-01T00:00,1.2,1.3\n", int8(0))
 	f.Add("time,stage\n2024-05-01T00:00,1e308\n2024-05-01T00:15,-9999\n", int8(0))
+	f.Add("time,stage\n0001-01-01T00:00,1\n2024-05-01T00:15,1\n", int8(0))
+	f.Add("time,stage\n2024-05-01T00:00,1\n2024-05-01T00:15Z,1\n", int8(10))
+	first := time.Date(MinYear, 1, 1, 0, 0, 0, 0, time.UTC).Unix() - int64(record.MaxUTCOffset/time.Second)
+	last := time.Date(MaxYear, 12, 31, 23, 59, 59, 0, time.UTC).Unix() + int64(record.MaxUTCOffset/time.Second)
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
 		off := time.Duration(offsetHours%15) * time.Hour
 		r, err := ParseStageRecord(strings.NewReader(in), "f.csv", StageRecordOptions{UTCOffset: off})
@@ -49,6 +54,9 @@ func FuzzParseStageRecord(f *testing.F) {
 		for i, h := range r.Stages.Stage {
 			if math.Abs(h) > MaxElevation {
 				t.Errorf("reading %d: implausible stage %g accepted", i, h)
+			}
+			if tm := r.Stages.Time[i]; tm < first || tm > last {
+				t.Errorf("reading %d: time %s outside the years %d to %d accepted", i, time.Unix(tm, 0).UTC(), MinYear, MaxYear)
 			}
 		}
 	})
@@ -95,6 +103,12 @@ func FuzzParseISOTime(f *testing.F) {
 				continue
 			}
 			if _, zo := want.Zone(); zo >= 24*3600 || zo <= -24*3600 {
+				continue
+			}
+			if y := want.Year(); y < MinYear || y > MaxYear { // the year as written
+				if !errors.Is(err, ErrYear) {
+					t.Fatalf("%q: %v, %v; want ErrYear", s, got, err)
+				}
 				continue
 			}
 			if err != nil || !got.Equal(want) {
