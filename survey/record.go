@@ -92,7 +92,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // differs from the first time's (ErrMixedOffsets), a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before). A header naming a column twice is refused
-// (ErrDuplicateColumn). A row with a time and a blank stage is a missing
+// (ErrDuplicateColumn), and so is one with both stage and gauge_height
+// (ErrAliasColumns). A row with a time and a blank stage is a missing
 // reading: it is left out and counted in Blank.
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)

@@ -226,3 +226,41 @@ func TestTimesMixedOffsets(t *testing.T) {
 	_, err = ReadGaugingsAt(book, "gaugings", 10*time.Hour)
 	checkCellError(t, err, ErrMixedOffsets, 3, 1, "field.xlsx['gaugings']!A3")
 }
+
+// A header naming stage and its alias gauge_height is refused at the
+// second of the two, by every table that takes the alias.
+func TestStageAliasBoth(t *testing.T) {
+	t.Parallel()
+	reader := map[string]func(string) error{}
+	for _, r := range timeReaders {
+		reader[r.name] = r.read
+	}
+	for _, tc := range []struct {
+		name, reader, header string
+		col                  int
+		want                 string
+	}{
+		{"stage record", "stage record", "time,stage,gauge_height", 3, "both stage and gauge_height: keep one"},
+		{"stage record, alias first", "stage record", "gauge_height (m),time,Stage (m)", 3, "both gauge_height (m) and Stage (m): keep one"},
+		{"gaugings", "gaugings", "time,stage,discharge,gauge_height", 4, "both stage and gauge_height: keep one"},
+		{"rating tables", "rating periods", "gauge height,discharge,stage", 3, "both gauge height and stage: keep one"},
+		{"shift diagrams", "shift diagrams", "time,gauge-height,shift,stage", 4, "both gauge-height and stage: keep one"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			path := filepath.Join(t.TempDir(), "t.csv")
+			if err := os.WriteFile(path, []byte(tc.header+"\n"+strings.Repeat("2024-05-01,", strings.Count(tc.header, ","))+"1\n"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			err := reader[tc.reader](path)
+			checkCellError(t, err, ErrAliasColumns, 1, tc.col, "t.csv:1:"+fmt.Sprint(tc.col)+": ")
+			if err != nil && !strings.HasSuffix(err.Error(), tc.want) {
+				t.Errorf("%v; want it to end %q", err, tc.want)
+			}
+		})
+	}
+	// The streamed workbook stage record too, as a cell reference.
+	book := writeBook(t, t.TempDir(), map[string][][]any{"stage": {{"time", "stage", "gauge_height"}, {"2024-05-01", 1, 1}}}, []string{"stage"})
+	_, err := ReadStageRecord(book, StageRecordOptions{})
+	checkCellError(t, err, ErrAliasColumns, 1, 3, "field.xlsx['stage']!C1")
+}
