@@ -93,8 +93,10 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before). A header naming a column twice is refused
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
-// (ErrAliasColumns). A row with a time and a blank stage is a missing
-// reading: it is left out and counted in Blank.
+// (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
+// field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
+// it. A row with a time and a blank stage is a missing reading: it is
+// left out and counted in Blank.
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
 }

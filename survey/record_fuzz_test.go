@@ -40,6 +40,7 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,stage\n0001-01-01T00:00,1\n2024-05-01T00:15,1\n", int8(0))
 	f.Add("time,stage\n2024-05-01T00:00,1\n2024-05-01T00:15Z,1\n", int8(10))
 	f.Add("time,stage,gauge_height\n2024-05-01T00:00,1,1\n", int8(0))
+	f.Add("time,stage\n2024-05-01T00:00,0.7\xb0\n", int8(0))
 	first := time.Date(MinYear, 1, 1, 0, 0, 0, 0, time.UTC).Unix() - int64(record.MaxUTCOffset/time.Second)
 	last := time.Date(MaxYear, 12, 31, 23, 59, 59, 0, time.UTC).Unix() + int64(record.MaxUTCOffset/time.Second)
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
@@ -67,6 +68,10 @@ func FuzzParseStageRecord(f *testing.F) {
 // encoding/csv does (the reference). Seeds in testdata/fuzz/FuzzCSVStream.
 func FuzzCSVStream(f *testing.F) {
 	f.Add("a,b\n\"1\n2\",3\n")
+	f.Add("a,b\n1,2\xb0\n")
+	f.Add("a,b\n\"1\n\xe9\",3\n")
+	f.Add("a,b\r1,2\r")
+	f.Add("a\tb\n1\t2\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		checkStreamMatches(t, in)
 	})

@@ -214,10 +214,15 @@ func TestParseDecimal(t *testing.T) {
 	}
 }
 
-// readAllCSV reads CSV text the way ParseCSV does (encoding/csv with the
-// same settings, blank records skipped, fields trimmed), for comparison.
+// readAllCSV reads CSV text the way ParseCSV does (text that is not a
+// UTF-8 table refused, encoding/csv with the same settings, blank records
+// skipped, fields trimmed), for comparison.
 func readAllCSV(in string) ([][]string, []int, error) {
-	data, err := dropSeparatorHint([]byte(strings.TrimPrefix(in, "\ufeff")), "x.csv")
+	data := []byte(strings.TrimPrefix(in, "\ufeff"))
+	if err := sniffText(data, "x.csv"); err != nil {
+		return nil, nil, err
+	}
+	data, err := dropSeparatorHint(data, "x.csv")
 	if err != nil {
 		return nil, nil, err
 	}
@@ -301,6 +306,12 @@ func TestCSVStreamMatchesEncodingCSV(t *testing.T) {
 		"sep=;\na;b\n",
 		"\ufeffsep=,\na,b\n",
 		"a,b\nsep=,\n",
+		"a,b\n1,2\xb0\n",
+		"a,b\n\"1\n\xe9\",3\n",
+		"# caf\xe9\na,b\n",
+		"a,b\r1,2\r",
+		"a\tb\n1\t2\n",
+		"\xff\xfea\x00",
 	} {
 		checkStreamMatches(t, in)
 	}

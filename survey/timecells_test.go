@@ -264,3 +264,45 @@ func TestStageAliasBoth(t *testing.T) {
 	_, err := ReadStageRecord(book, StageRecordOptions{})
 	checkCellError(t, err, ErrAliasColumns, 1, 3, "field.xlsx['stage']!C1")
 }
+
+// A stage record that is not UTF-8 text, or no text table, is refused as
+// every other reader refuses it (ParseCSV): the same cause at the same
+// line and field. The positions are counted by hand: line 1 is the
+// header, fields from 1.
+func TestStageRecordEncoding(t *testing.T) {
+	t.Parallel()
+	var long strings.Builder // a header and 301 readings, about 5 700 bytes
+	long.WriteString("time,stage\n2024-05-01T00:00,1\n")
+	for i := range 300 {
+		fmt.Fprintf(&long, "2024-05-02T%02d:%02d,1\n", i/60, i%60)
+	}
+	for _, tc := range []struct {
+		name, text string
+		is         error
+		row, col   int
+	}{
+		{"degree sign in a stage", "time,stage\n2024-05-01T00:00,0.7\xb0\n", ErrNotUTF8, 2, 2},
+		{"e acute in a quality", "time,stage,quality\n2024-05-01T00:00,0.7,estim\xe9\n", ErrNotUTF8, 2, 3},
+		{"in the header", "time,stage (\xb0)\n2024-05-01T00:00,0.7\n", ErrNotUTF8, 1, 2},
+		{"in a comment", "# logger at the weir, 12\xb0C\ntime,stage\n2024-05-01T00:00,0.7\n", ErrNotUTF8, 1, 2},
+		{"after a quoted comma", "time,stage,quality\n2024-05-01T00:00,0.7,\"a, b\"\n2024-05-01T00:15,0.7,\"\xb0\"\n", ErrNotUTF8, 3, 3},
+		{"in a quoted field of two lines", "time,stage,quality\n2024-05-01T00:00,0.7,\"a\nb\xe9\"\n", ErrNotUTF8, 3, 3},
+		{"beyond the first 4096 bytes", long.String() + "2024-05-03T00:00,1\xe9\n", ErrNotUTF8, 303, 2},
+		{"UTF-16", "\xff\xfet\x00i\x00m\x00e\x00", ErrUTF16, 0, 0},
+		{"binary", "time,stage\n\x00\x01\x02", ErrBinary, 0, 0},
+		{"a workbook", "PK\x03\x04rest", ErrWorkbookNamed, 0, 0},
+		{"tabs", "# record\ntime\tstage\n2024-05-01T00:00\t0.7\n", ErrTabs, 2, 0},
+		{"carriage returns alone", "time,stage\r2024-05-01T00:00,0.7\r", ErrCROnly, 0, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			_, want := ParseCSV(strings.NewReader(tc.text), "s.csv")
+			checkCellError(t, want, tc.is, tc.row, tc.col, "s.csv")
+			_, err := ParseStageRecord(strings.NewReader(tc.text), "s.csv", StageRecordOptions{})
+			checkCellError(t, err, tc.is, tc.row, tc.col, "s.csv")
+			if err != nil && want != nil && err.Error() != want.Error() {
+				t.Errorf("stage record: %q\nother readers: %q", err, want)
+			}
+		})
+	}
+}
