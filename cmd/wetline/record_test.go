@@ -228,7 +228,7 @@ func TestRecordRefusals(t *testing.T) {
 		{"repeated time", []string{"record", repeated, "--rating", recRatingA}, 1, "repeated.csv:4:1"},
 		{"bad stage", []string{"record", bad, "--rating", recRatingA}, 1, "bad.csv:3:2"},
 		{"missing rating file", []string{"record", recStages, "--rating", filepath.Join(dir, "nope.csv")}, 1, "nope.csv"},
-		{"rating time in year 1", []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB + "@0001-01-01"}, 2, "year 1 is not a plausible year for a gauge record (1800 to 2200)"},
+		{"rating time in year 1", []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB + "@0001-01-01"}, 2, "@0001-01-01: the time after @: year 1 is not a plausible year for a gauge record (1800 to 2200)"},
 		{"reading in year 1", []string{"record", year1, "--rating", recRatingA}, 1, `year1.csv:2:1: time "0001-01-01T00:00": year 1 is not a plausible year`},
 		{"times with and without an offset", []string{"record", mixed, "--rating", recRatingA}, 1,
 			`mixed.csv:3:1: time "2024-05-01T01:00Z": times with and without a UTC offset in one file: row 3 has one, row 2 has none`},
