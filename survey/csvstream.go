@@ -13,7 +13,11 @@ import (
 // conventions of ParseCSV: a byte-order mark is dropped, lines starting
 // with '#' are comments, blank records are skipped, fields are trimmed, and
 // Excel's separator hint "sep=," on the first line is skipped (a hint of
-// another separator is refused).
+// another separator is refused). Text that is not a UTF-8 table is
+// refused as ParseCSV refuses it (see sniffText): what the head of the
+// file shows (a workbook, UTF-16, binary data, tabs) at the first record,
+// a byte of another encoding at its line and field, carriage returns
+// alone at the first line.
 // A line without a quote is split at its commas in place; a record with
 // quotes is handed to encoding/csv, so quoting follows RFC 4180 exactly.
 // The fields returned are valid until the next call.
@@ -28,6 +32,8 @@ type csvStream struct {
 	// record; started is set once a record has been returned.
 	meta    map[string]string
 	started bool
+	// err is what the head of the file showed, returned by next.
+	err error
 }
 
 // queued is a record parsed by encoding/csv from a quoted chunk.
@@ -44,7 +50,12 @@ func newCSVStream(r io.Reader, name string) *csvStream {
 	if bom, err := br.Peek(3); err == nil && string(bom) == "\ufeff" {
 		br.Discard(3)
 	}
-	return &csvStream{br: br, name: name}
+	c := &csvStream{br: br, name: name}
+	head, _ := br.Peek(sniffBytes)
+	if c.err = sniffKind(head, name); c.err == nil {
+		c.err = tabbedHead(head, name)
+	}
+	return c
 }
 
 // readLine returns the next line without its line ending ("\n", "\r\n",
@@ -65,6 +76,14 @@ func (c *csvStream) readLine() ([]byte, error) {
 	if len(line) == 0 && err == io.EOF {
 		return nil, io.EOF
 	}
+	if c.line == 0 && err == io.EOF && bytes.IndexByte(line, '\r') >= 0 {
+		// One line holding the whole file: its lines end in carriage
+		// returns alone.
+		if err := utf8Error(line, c.name, 1); err != nil {
+			return nil, err
+		}
+		return nil, &ParseError{File: c.name, Err: ErrCROnly}
+	}
 	c.line++
 	n := len(line)
 	switch {
@@ -82,6 +101,9 @@ func (c *csvStream) readLine() ([]byte, error) {
 // next returns the next non-blank record's trimmed fields and the line it
 // starts on; io.EOF after the last. Errors are *ParseError.
 func (c *csvStream) next() ([][]byte, int, error) {
+	if c.err != nil {
+		return nil, 0, c.err
+	}
 	for {
 		if len(c.queue) > 0 {
 			q := c.queue[0]
@@ -94,7 +116,17 @@ func (c *csvStream) next() ([][]byte, int, error) {
 			return nil, 0, io.EOF
 		}
 		if err != nil {
+			var pe *ParseError
+			if errors.As(err, &pe) {
+				return nil, 0, err
+			}
 			return nil, 0, &ParseError{File: c.name, Err: err}
+		}
+		if bytes.IndexByte(line, '"') < 0 || line[0] == '#' {
+			// A line with quotes is checked with its record (quoted).
+			if err := utf8Error(line, c.name, c.line); err != nil {
+				return nil, 0, err
+			}
 		}
 		if c.line == 1 {
 			if m := excelSeparatorHint.FindSubmatch(line); m != nil {
@@ -156,6 +188,9 @@ func (c *csvStream) quoted(first []byte) error {
 		}
 		chunk = append(append(chunk, '\n'), line...)
 		quotes += bytes.Count(line, []byte{'"'})
+	}
+	if err := utf8Error(chunk, c.name, start); err != nil {
+		return err
 	}
 	cr := csv.NewReader(bytes.NewReader(chunk))
 	cr.Comment = '#'

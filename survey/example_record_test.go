@@ -8,13 +8,14 @@ import (
 	"wetline/survey"
 )
 
-// A stage record streamed from CSV: times with and without an offset
-// (without one, at the offset given), a missing reading, a quality word.
+// A stage record streamed from CSV: times written without an offset (at
+// the offset given), a missing reading, a quality word; then a record whose
+// times go back, and one that mixes times with and without an offset.
 func ExampleParseStageRecord() {
 	const in = `time,stage (m),quality
 2024-05-01T10:00,0.512,
 2024-05-01T10:15,,
-2024-05-01T00:30Z,0.518,ice
+2024-05-01T10:30,0.518,ice
 `
 	r, err := survey.ParseStageRecord(strings.NewReader(in), "tallow-stage.csv", survey.StageRecordOptions{UTCOffset: 10 * time.Hour})
 	if err != nil {
@@ -28,11 +29,14 @@ func ExampleParseStageRecord() {
 	fmt.Println(r.Warnings[0])
 	_, err = survey.ParseStageRecord(strings.NewReader("time,stage\n2024-05-01T00:30,1\n2024-05-01T00:15,1\n"), "bad.csv", survey.StageRecordOptions{})
 	fmt.Println(err)
+	_, err = survey.ParseStageRecord(strings.NewReader("time,stage\n2024-05-01T10:00,1\n2024-05-01T10:15+10:00,1\n"), "mixed.csv", survey.StageRecordOptions{UTCOffset: 10 * time.Hour})
+	fmt.Println(err)
 	// Output:
 	// 2024-05-01T00:00:00Z 0.512 ""
 	// 2024-05-01T00:30:00Z 0.518 "ice"
 	// tallow-stage.csv: 1 row(s) with a time but no stage, read as missing readings
 	// bad.csv:3:1: time "2024-05-01T00:15": times must increase from row to row: 2024-05-01T00:15:00Z is before 2024-05-01T00:30:00Z, the time of row 2
+	// mixed.csv:3:1: time "2024-05-01T10:15+10:00": times with and without a UTC offset in one file: row 3 has one, row 2 has none
 }
 
 // Shift diagrams: a stage-dependent diagram tapering to zero, then a

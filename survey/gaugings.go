@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"strings"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -94,9 +95,18 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // beyond MaxElevation or rating.MaxDischarge), a negative discharge
 // (ErrNegativeDischarge), an unknown quality word, an uncertainty that is
 // not a number in range (ErrUncertainty), and a time given twice
-// (ErrDuplicateTime; times with offsets compare as instants). A missing
-// column is the error of Table.Require, a table without rows ErrEmpty.
+// (ErrDuplicateTime; times with offsets compare as instants), a year
+// outside MinYear to MaxYear (ErrYear), and a time written with a UTC
+// offset in a table whose first time has none, or the other way round
+// (ErrMixedOffsets). A missing column is the error of Table.Require, a
+// table without rows ErrEmpty.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
+	return gaugingsFromTable(t, 0)
+}
+
+// gaugingsFromTable is GaugingsFromTable, a time written without an offset
+// (or a workbook date serial) taken at UTC plus off seconds.
+func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	gs := Gaugings{File: t.File, Sheet: t.Sheet}
 	cols, err := gaugingColsOf(t)
 	if err != nil {
@@ -106,7 +116,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 		return gs, err
 	}
 	gs.Site = t.Site()
-	rd := &gaugingReader{t: t, cols: cols, seen: map[gaugingInstant]int{}}
+	rd := &gaugingReader{t: t, cols: cols, off: off, seen: map[gaugingInstant]int{}}
 	for _, rec := range t.Records {
 		if g, ok := rd.row(rec); ok {
 			gs.Gaugings = append(gs.Gaugings, g)
@@ -159,6 +169,10 @@ type gaugingInstant struct {
 type gaugingReader struct {
 	t    *Table
 	cols gaugingCols
+	// off is the offset in seconds of a time written without one.
+	off int64
+	// form is the form of the table's first time.
+	form offsetForm
 	// seen holds the row of every time read.
 	seen map[gaugingInstant]int
 	errs errorList
@@ -205,10 +219,16 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 		rd.add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
 		return false
 	}
-	tm, err := ParseTime(s, t.Sheet != "", t.Date1904)
+	tm, zoned, err := parseTime(s, t.Sheet != "", t.Date1904)
+	if err == nil {
+		err = rd.form.check(rec.Row, zoned)
+	}
 	if err != nil {
 		rd.add(rec, ct, err)
 		return false
+	}
+	if !zoned && rd.off != 0 {
+		tm = time.Unix(tm.Unix()-rd.off, int64(tm.Nanosecond())).UTC()
 	}
 	g.Time = tm
 	key := gaugingInstant{tm.Unix(), tm.Nanosecond()}

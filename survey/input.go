@@ -128,12 +128,32 @@ func readInput(path string) ([]byte, error) {
 // zipMagic starts every zip file, and so every xlsx workbook.
 var zipMagic = []byte("PK\x03\x04")
 
+// sniffBytes is how much of the head of a file sniffKind and tabbedHead
+// look at.
+const sniffBytes = 4096
+
 // sniffText refuses data that is not a UTF-8 text table, saying what it
 // is: a workbook, UTF-16 text, binary data, text of another encoding (at
 // its line and field), lines ended by carriage returns alone. The first
 // line is also checked for tabs where commas belong (at its line).
 func sniffText(data []byte, name string) error {
-	head := data[:min(len(data), 4096)]
+	head := data[:min(len(data), sniffBytes)]
+	if err := sniffKind(head, name); err != nil {
+		return err
+	}
+	if err := utf8Error(data, name, 1); err != nil {
+		return err
+	}
+	if bytes.IndexByte(data, '\n') < 0 && bytes.IndexByte(data, '\r') >= 0 {
+		return &ParseError{File: name, Err: ErrCROnly}
+	}
+	return tabbedHead(head, name)
+}
+
+// sniffKind refuses a file whose head (its first sniffBytes, after a
+// byte-order mark) shows it is no text: a workbook, UTF-16 text or binary
+// data.
+func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
 	case bytes.HasPrefix(head, zipMagic):
@@ -145,12 +165,24 @@ func sniffText(data []byte, name string) error {
 			return fail(ErrUTF16)
 		}
 		return fail(ErrBinary)
-	case !utf8.Valid(data):
-		row, col := textPosition(data, invalidUTF8(data))
-		return &ParseError{File: name, Row: row, Column: col, Err: ErrNotUTF8}
-	case bytes.IndexByte(data, '\n') < 0 && bytes.IndexByte(data, '\r') >= 0:
-		return fail(ErrCROnly)
 	}
+	return nil
+}
+
+// utf8Error returns nil for UTF-8 text, else a ParseError (ErrNotUTF8) at
+// the line and field of the first byte that is not, counting the lines of
+// data from line (the line data starts on).
+func utf8Error(data []byte, name string, line int) error {
+	if utf8.Valid(data) {
+		return nil
+	}
+	row, col := textPosition(data, invalidUTF8(data))
+	return &ParseError{File: name, Row: line + row - 1, Column: col, Err: ErrNotUTF8}
+}
+
+// tabbedHead refuses a head whose first line that is neither blank nor a
+// comment holds tabs and no comma (ErrTabs at that line).
+func tabbedHead(head []byte, name string) error {
 	for i, line := range bytes.Split(head, []byte("\n")) {
 		line = bytes.TrimSpace(line)
 		if len(line) == 0 || line[0] == '#' {

@@ -17,7 +17,36 @@ var (
 	ErrSubSecond    = errors.New("fractions of a second are not kept: round the time to the second")
 	ErrTimeOrder    = errors.New("times must increase from row to row")
 	ErrRepeatedTime = errors.New("repeated time")
+	// ErrYear is the cause of a time whose year, as written, lies outside
+	// MinYear to MaxYear.
+	ErrYear = errors.New("is not a plausible year for a gauge record")
+	// ErrMixedOffsets is the cause of a time written with a UTC offset in a
+	// file whose first time has none, or the other way round.
+	ErrMixedOffsets = errors.New("times with and without a UTC offset in one file")
 )
+
+// MinYear and MaxYear bound the year of every time read: the cells of
+// stage records, gaugings, shift diagrams and rating periods (valid_from),
+// and the times of the command line's flags, as written (before any UTC
+// offset is applied; a workbook date serial by the date it stands for). A
+// year outside them is a slip (a date cell left at a program's zero date,
+// 0001-01-01, or a year typed with a digit too many), refused as ErrYear
+// at its cell. The bound keeps every record within 401 years, so its
+// daily table within 146 462 days (the days of 1800 to 2200), and every
+// span between two times within int64 seconds (see record.MaxSpan).
+const (
+	MinYear = 1800
+	MaxYear = 2200
+)
+
+// checkYear returns ErrYear, saying the bound, for a year outside MinYear
+// to MaxYear.
+func checkYear(y int64) error {
+	if y < MinYear || y > MaxYear {
+		return fmt.Errorf("year %d %w (%d to %d)", y, ErrYear, MinYear, MaxYear)
+	}
+	return nil
+}
 
 // ParseISOTime reads an ISO 8601 date-time: a date (2024-03-05), or a date
 // and a time to the minute or second (2024-03-05T14:30, 2024-03-05
@@ -25,7 +54,8 @@ var (
 // spreadsheets write it), with an optional offset (Z,
 // +10:00, -0500, +10). A time written without an offset is at UTC plus
 // offset (UTC when offset is 0). Fractions of a second are allowed only
-// when zero. The result is in UTC. Errors wrap ErrISOTime or ErrSubSecond.
+// when zero. The result is in UTC. Errors wrap ErrISOTime, ErrSubSecond,
+// or ErrYear for a year outside MinYear to MaxYear.
 func ParseISOTime(s string, offset time.Duration) (time.Time, error) {
 	sec, err := parseISO(s, int64(offset/time.Second))
 	if err != nil {
@@ -37,22 +67,32 @@ func ParseISOTime(s string, offset time.Duration) (time.Time, error) {
 // parseISO reads an ISO 8601 date-time (see ParseISOTime) as Unix seconds;
 // off is the offset in seconds of a time written without one.
 func parseISO[T string | []byte](b T, off int64) (int64, error) {
+	sec, _, err := parseISOZone(b, off)
+	return sec, err
+}
+
+// parseISOZone is parseISO, also telling whether the text carries a UTC
+// offset of its own (zoned).
+func parseISOZone[T string | []byte](b T, off int64) (sec int64, zoned bool, err error) {
 	n := len(b)
 	if n < 10 || b[4] != '-' || b[7] != '-' {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	y, ok1 := digits(b, 0, 4)
 	mo, ok2 := digits(b, 5, 2)
 	d, ok3 := digits(b, 8, 2)
 	if !ok1 || !ok2 || !ok3 || mo < 1 || mo > 12 || d < 1 || d > daysIn(y, mo) {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	days := daysFromCivil(y, mo, d)
 	if n == 10 {
-		return days*86400 - off, nil
+		if err := checkYear(y); err != nil {
+			return 0, false, err
+		}
+		return days*86400 - off, false, nil
 	}
 	if c := b[10]; c != 'T' && c != 't' && c != ' ' {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	// The hour may have one digit, as spreadsheets write it (9:30).
 	i := 12
@@ -61,18 +101,18 @@ func parseISO[T string | []byte](b T, off int64) (int64, error) {
 	}
 	hh, ok1 := digits(b, 11, i-11)
 	if i >= n || b[i] != ':' {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	mm, ok2 := digits(b, i+1, 2)
 	if !ok1 || !ok2 || hh > 23 || mm > 59 {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	i += 3
 	var ss int64
 	if i < n && b[i] == ':' {
 		v, ok := digits(b, i+1, 2)
 		if !ok || v > 59 {
-			return 0, ErrISOTime
+			return 0, false, ErrISOTime
 		}
 		ss, i = v, i+3
 		if i < n && (b[i] == '.' || b[i] == ',') {
@@ -83,19 +123,22 @@ func parseISO[T string | []byte](b T, off int64) (int64, error) {
 				j++
 			}
 			if j == i+1 {
-				return 0, ErrISOTime
+				return 0, false, ErrISOTime
 			}
 			if nonzero {
-				return 0, ErrSubSecond
+				return 0, false, ErrSubSecond
 			}
 			i = j
 		}
 	}
 	zone, err := zoneOffset(b, i, off)
 	if err != nil {
-		return 0, err
+		return 0, false, err
 	}
-	return days*86400 + hh*3600 + mm*60 + ss - zone, nil
+	if err := checkYear(y); err != nil {
+		return 0, false, err
+	}
+	return days*86400 + hh*3600 + mm*60 + ss - zone, i < n, nil
 }
 
 // zoneOffset reads the zone designator at b[i:] (none, Z, ±hh[[:]mm]) as
@@ -198,28 +241,71 @@ func checkOffset(off time.Duration) (int64, error) {
 
 // cellTime reads a time cell of a record or a diagram: ISO 8601 text, or in
 // a workbook a date serial (local time at the offset off, in seconds),
-// rounded to the second. In a CSV file a bare number is ErrSerialInCSV.
-func cellTime(s string, inWorkbook, date1904 bool, off int64) (int64, error) {
-	sec, err := parseISO(s, off)
-	if err == nil || errors.Is(err, ErrSubSecond) {
-		return sec, err
+// rounded to the second. zoned tells a text written with a UTC offset of
+// its own (a serial has none). In a CSV file a bare number is
+// ErrSerialInCSV; a year outside MinYear to MaxYear is ErrYear.
+func cellTime[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec int64, zoned bool, err error) {
+	sec, zoned, err = parseISOZone(s, off)
+	if err == nil || !errors.Is(err, ErrISOTime) {
+		return sec, zoned, err
 	}
-	v, nerr := ParseNumber(s)
+	v, nerr := ParseNumber(string(s))
 	if nerr != nil {
-		return 0, ErrISOTime
+		return 0, false, ErrISOTime
 	}
 	if !inWorkbook {
-		return 0, ErrSerialInCSV
+		return 0, false, ErrSerialInCSV
 	}
+	t, err := serialTime(v, date1904, ErrISOTime)
+	if err != nil {
+		return 0, false, err
+	}
+	return t.Unix() - off, false, nil
+}
+
+// serialTime turns a workbook date serial into the time it stands for
+// (in UTC, rounded to the second). A serial out of range, or one that
+// excelize cannot convert, wraps bad; one outside the years MinYear to
+// MaxYear is ErrYear.
+func serialTime(v float64, date1904 bool, bad error) (time.Time, error) {
 	if v < MinDateSerial || v > MaxDateSerial {
-		return 0, fmt.Errorf("%w (date serial %g is out of range)", ErrISOTime, v)
+		return time.Time{}, fmt.Errorf("%w (date serial %g is out of range)", bad, v)
 	}
 	t, err := excelize.ExcelDateToTime(v, date1904)
 	if err != nil {
-		return 0, fmt.Errorf("%w (%v)", ErrISOTime, err)
+		return time.Time{}, fmt.Errorf("%w (%v)", bad, err)
 	}
 	t = t.Round(time.Second)
-	return t.Unix() - off, nil
+	if err := checkYear(int64(t.Year())); err != nil {
+		return time.Time{}, err
+	}
+	return t, nil
+}
+
+// offsetForm remembers the form of a file's first time, with or without
+// a UTC offset, so that a file mixing the two is refused: a time written
+// without an offset is taken at the offset the command gives, and one
+// file holding both forms is a file put together from two sources.
+type offsetForm struct {
+	row   int // the first time's row; 0 before it
+	zoned bool
+}
+
+// check takes the form of the time at row and returns ErrMixedOffsets,
+// naming both rows, when it differs from the first time's.
+func (f *offsetForm) check(row int, zoned bool) error {
+	switch {
+	case f.row == 0:
+		f.row, f.zoned = row, zoned
+		return nil
+	case zoned == f.zoned:
+		return nil
+	}
+	with, without := f.row, row
+	if zoned {
+		with, without = row, f.row
+	}
+	return fmt.Errorf("%w: row %d has one, row %d has none", ErrMixedOffsets, with, without)
 }
 
 // formatUnix writes Unix seconds as ISO 8601 in UTC, for messages.
@@ -245,18 +331,7 @@ func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) 
 	if err != nil {
 		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
 	}
-	if ct := t.Column(ColGaugingTime); ct >= 0 && off != 0 {
-		inWorkbook := t.Sheet != ""
-		for _, rec := range t.Records {
-			s := t.Cell(rec, ct)
-			utc, err1 := cellTime(s, inWorkbook, t.Date1904, 0)
-			local, err2 := cellTime(s, inWorkbook, t.Date1904, off)
-			if err1 == nil && err2 == nil && utc != local { // written without an offset
-				rec.Cells[ct] = time.Unix(local, 0).UTC().Format(time.RFC3339)
-			}
-		}
-	}
-	g, err := GaugingsFromTable(t)
+	g, err := gaugingsFromTable(t, off)
 	g.Warnings = append(t.Warnings, g.Warnings...)
 	return g, err
 }

@@ -59,7 +59,7 @@ func ratingPeriods(t *Table, cv int) int {
 		if s == "" {
 			continue
 		}
-		sec, err := cellTime(s, t.Sheet != "", t.Date1904, 0)
+		sec, _, err := cellTime(s, t.Sheet != "", t.Date1904, 0)
 		ok := err == nil
 		same := n > 0 && ((ok && lastOK && sec == lastSec) || s == last)
 		if !same {

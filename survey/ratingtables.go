@@ -97,7 +97,9 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // discharge columns (any table wetline writes of a rating, or one an office
 // keeps), or, when the table has a valid_from column, one rating per
 // valid_from time (a blank valid_from, or the same instant as the row
-// above, continues the rating above). Rows
+// above, continues the rating above; the times all with a UTC offset or
+// all without, ErrMixedOffsets at the first that differs, each of the
+// years MinYear to MaxYear, ErrYear). Rows
 // must ascend in stage with discharge rising once above zero (see
 // gauged.RatingTable.Validate); periods must ascend in time. Units written
 // in the stage and discharge headers are reported in Units; an unknown
@@ -123,10 +125,14 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)
 	var errs errorList
 	var groups []ratingGroup
+	var form offsetForm
 	for _, rec := range t.Records {
 		if cv >= 0 {
 			if s := t.Cell(rec, cv); s != "" {
-				sec, err := cellTime(s, t.Sheet != "", t.Date1904, off)
+				sec, zoned, err := cellTime(s, t.Sheet != "", t.Date1904, off)
+				if err == nil {
+					err = form.check(rec.Row, zoned)
+				}
 				from := time.Unix(sec, 0).UTC()
 				switch {
 				case err != nil:

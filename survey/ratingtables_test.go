@@ -35,7 +35,7 @@ func TestParseRatingTables(t *testing.T) {
 	}
 	// Periods from a valid_from column; elevations turned into gauge heights.
 	const periods = "valid_from,stage,discharge\n" +
-		"2023-01-01,100.5,0\n,101.0,2\n,102.0,9\n" +
+		"2023-01-01T00:00Z,100.5,0\n,101.0,2\n,102.0,9\n" +
 		"2024-06-01T00:00+10:00,100.6,0\n,101.2,3\n"
 	rs, err = ParseRatingTables(strings.NewReader(periods), "r.csv", RatingTableOptions{Datum: 100})
 	if err != nil {
@@ -187,7 +187,7 @@ func TestRatingTableHeaderUnits(t *testing.T) {
 // whose time comes back after another is still out of order.
 func TestParseRatingTablesLongFormat(t *testing.T) {
 	const long = "valid_from,stage,discharge\n" +
-		"2023-01-01,0.5,0\n2023-01-01,1.0,2\n2023-01-01T00:00Z,2.0,9\n" +
+		"2023-01-01T00:00Z,0.5,0\n2023-01-01T00:00Z,1.0,2\n2023-01-01T10:00+10:00,2.0,9\n" +
 		"2024-06-01T00:00+10:00,0.6,0\n2024-05-31T14:00Z,1.2,3\n"
 	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4})
 	if err != nil {

@@ -85,13 +85,18 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // messages. The header needs a time and a stage (or gauge_height) column;
 // a quality column is optional and other columns are ignored.
 //
-// Times are ISO 8601 (see ParseISOTime), with or without an offset. Every
-// bad cell is reported with its position (file:row:column), at most
-// MaxReported of them: an unreadable time or stage, a stage beyond
+// Times are ISO 8601 (see ParseISOTime), all with an offset or all
+// without. Every bad cell is reported with its position (file:row:column),
+// at most MaxReported of them: an unreadable time or stage, a year outside
+// MinYear to MaxYear (ErrYear), a time whose offset, or lack of one,
+// differs from the first time's (ErrMixedOffsets), a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before). A header naming a column twice is refused
-// (ErrDuplicateColumn). A row with a time and a blank stage
-// is a missing reading: it is left out and counted in Blank.
+// (ErrDuplicateColumn), and so is one with both stage and gauge_height
+// (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
+// field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
+// it. A row with a time and a blank stage is a missing reading: it is
+// left out and counted in Blank.
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
 }
@@ -202,6 +207,7 @@ type stageBuilder struct {
 	quality              map[string]uint16
 	lastSec              int64 // time of the last row with a usable time
 	lastRow              int   // its row; 0 before the first
+	form                 offsetForm
 	errs                 cappedErrors
 }
 
@@ -261,12 +267,9 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		b.fail(row, b.ct, nil, ErrBlankTime)
 		return
 	}
-	var sec int64
-	var err error
-	if b.inWorkbook {
-		sec, err = cellTime(string(ts), true, b.date1904, b.off)
-	} else if sec, err = parseISO(ts, b.off); errors.Is(err, ErrISOTime) {
-		_, err = cellTime(string(ts), false, false, b.off)
+	sec, zoned, err := cellTime(ts, b.inWorkbook, b.date1904, b.off)
+	if err == nil {
+		err = b.form.check(row, zoned)
 	}
 	if err != nil {
 		b.fail(row, b.ct, ts, err)

@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"wetline/rating/gauged"
+	"wetline/rating/record"
 )
 
 // checkPositioned fails unless err is nil or made of ParseErrors naming
@@ -36,6 +37,12 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
 	f.Add("time,stage,stage\n2024-05-01T00:00,1.2,1.3\n", int8(0))
 	f.Add("time,stage\n2024-05-01T00:00,1e308\n2024-05-01T00:15,-9999\n", int8(0))
+	f.Add("time,stage\n0001-01-01T00:00,1\n2024-05-01T00:15,1\n", int8(0))
+	f.Add("time,stage\n2024-05-01T00:00,1\n2024-05-01T00:15Z,1\n", int8(10))
+	f.Add("time,stage,gauge_height\n2024-05-01T00:00,1,1\n", int8(0))
+	f.Add("time,stage\n2024-05-01T00:00,0.7\xb0\n", int8(0))
+	first := time.Date(MinYear, 1, 1, 0, 0, 0, 0, time.UTC).Unix() - int64(record.MaxUTCOffset/time.Second)
+	last := time.Date(MaxYear, 12, 31, 23, 59, 59, 0, time.UTC).Unix() + int64(record.MaxUTCOffset/time.Second)
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
 		off := time.Duration(offsetHours%15) * time.Hour
 		r, err := ParseStageRecord(strings.NewReader(in), "f.csv", StageRecordOptions{UTCOffset: off})
@@ -50,6 +57,9 @@ func FuzzParseStageRecord(f *testing.F) {
 			if math.Abs(h) > MaxElevation {
 				t.Errorf("reading %d: implausible stage %g accepted", i, h)
 			}
+			if tm := r.Stages.Time[i]; tm < first || tm > last {
+				t.Errorf("reading %d: time %s outside the years %d to %d accepted", i, time.Unix(tm, 0).UTC(), MinYear, MaxYear)
+			}
 		}
 	})
 }
@@ -58,6 +68,10 @@ func FuzzParseStageRecord(f *testing.F) {
 // encoding/csv does (the reference). Seeds in testdata/fuzz/FuzzCSVStream.
 func FuzzCSVStream(f *testing.F) {
 	f.Add("a,b\n\"1\n2\",3\n")
+	f.Add("a,b\n1,2\xb0\n")
+	f.Add("a,b\n\"1\n\xe9\",3\n")
+	f.Add("a,b\r1,2\r")
+	f.Add("a\tb\n1\t2\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		checkStreamMatches(t, in)
 	})
@@ -95,6 +109,12 @@ func FuzzParseISOTime(f *testing.F) {
 				continue
 			}
 			if _, zo := want.Zone(); zo >= 24*3600 || zo <= -24*3600 {
+				continue
+			}
+			if y := want.Year(); y < MinYear || y > MaxYear { // the year as written
+				if !errors.Is(err, ErrYear) {
+					t.Fatalf("%q: %v, %v; want ErrYear", s, got, err)
+				}
 				continue
 			}
 			if err != nil || !got.Equal(want) {

@@ -26,12 +26,12 @@ func utcUnix(y int, m time.Month, d, hh, mm, ss int) int64 {
 func TestParseStageRecord(t *testing.T) {
 	const in = "\ufeff# logger 7, Tallow Creek\r\n" +
 		"Time,Stage (m),Quality,battery\r\n" +
-		"2024-05-01T00:00,0.512,,12.1\r\n" +
+		"2024-05-01T00:00Z,0.512,,12.1\r\n" +
 		"\r\n" +
 		"2024-05-01 00:15:00Z, 0.515 ,ice,12.1\r\n" +
 		"\"2024-05-01T10:30+10:00\",\"0.52\",\"ice, partial\",12.0\r\n" +
 		"2024-05-01T00:45:00.000Z,,,\r\n" +
-		"2024-05-01T01:00,0.53,estimated,\r\n"
+		"2024-05-01T01:00+00:00,0.53,estimated,\r\n"
 	r, err := ParseStageRecord(strings.NewReader(in), "s.csv", StageRecordOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -47,13 +47,22 @@ func TestParseStageRecord(t *testing.T) {
 	if r.Blank != 1 || len(r.Warnings) != 1 || st.Validate() != nil {
 		t.Errorf("blank %d warnings %q", r.Blank, r.Warnings)
 	}
-	// Times without an offset are at the offset given.
-	r, err = ParseStageRecord(strings.NewReader("time,gauge_height\n2024-05-01T10:00,1\n2024-05-01T10:15Z,1\n"), "s.csv", StageRecordOptions{UTCOffset: 10 * time.Hour})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if r.Stages.Time[0] != utcUnix(2024, 5, 1, 0, 0, 0) || r.Stages.Time[1] != utcUnix(2024, 5, 1, 10, 15, 0) || r.Stages.Quality != nil {
-		t.Errorf("times %v", r.Stages.Time)
+	// Times without an offset are at the offset given; times with one keep
+	// their instant.
+	for _, tc := range []struct {
+		in   string
+		want []int64
+	}{
+		{"time,gauge_height\n2024-05-01T10:00,1\n2024-05-01T10:15,1\n", []int64{utcUnix(2024, 5, 1, 0, 0, 0), utcUnix(2024, 5, 1, 0, 15, 0)}},
+		{"time,gauge_height\n2024-05-01T10:00Z,1\n2024-05-01T10:15+00:00,1\n", []int64{utcUnix(2024, 5, 1, 10, 0, 0), utcUnix(2024, 5, 1, 10, 15, 0)}},
+	} {
+		r, err = ParseStageRecord(strings.NewReader(tc.in), "s.csv", StageRecordOptions{UTCOffset: 10 * time.Hour})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if fmt.Sprint(r.Stages.Time) != fmt.Sprint(tc.want) || r.Stages.Quality != nil {
+			t.Errorf("%q: times %v, want %v", tc.in, r.Stages.Time, tc.want)
+		}
 	}
 }
 
@@ -67,7 +76,7 @@ func TestParseStageRecordErrors(t *testing.T) {
 		is       error
 	}{
 		{"bad time", head + "2024-05-01T00:00,1\n2024-13-01T00:15,1\n", []string{"s.csv:3:1", `time "2024-13-01T00:15"`}, ErrISOTime},
-		{"repeated", head + "2024-05-01T00:00,1\n2024-05-01T10:00+10:00,1\n", []string{"s.csv:3:1", "row 2"}, ErrRepeatedTime},
+		{"repeated", head + "2024-05-01T00:00Z,1\n2024-05-01T10:00+10:00,1\n", []string{"s.csv:3:1", "row 2"}, ErrRepeatedTime},
 		{"unsorted", head + "2024-05-01T00:30,1\n2024-05-01T00:15,1\n", []string{"s.csv:3:1", "before 2024-05-01T00:30:00Z, the time of row 2"}, ErrTimeOrder},
 		{"unsorted after a comment", head + "2024-05-01T00:30,1\n# moved\n\n2024-05-01T00:15,1\n", []string{"s.csv:5:1", "row 2"}, ErrTimeOrder},
 		{"decimal comma", head + "2024-05-01T00:30,\"1,5\"\n", []string{"s.csv:2:2", `stage "1,5"`}, ErrDecimalComma},
@@ -124,9 +133,9 @@ func TestReadStageRecordWorkbook(t *testing.T) {
 	wb := excelize.NewFile()
 	rows := [][]any{
 		{"time", "stage (m)", "quality"},
-		{45413.0, 0.51, ""},   // 2024-05-01 00:00 local
-		{45413.25, 0.55, "E"}, // 06:00
-		{"2024-05-01T12:00+00:00", 0.6, ""},
+		{45413.0, 0.51, ""},           // 2024-05-01 00:00 local
+		{45413.25, 0.55, "E"},         // 06:00
+		{"2024-05-01T14:00", 0.6, ""}, // text at the same offset
 	}
 	for i, r := range rows {
 		cell, _ := excelize.CoordinatesToCellName(1, i+1)
@@ -205,10 +214,15 @@ func TestParseDecimal(t *testing.T) {
 	}
 }
 
-// readAllCSV reads CSV text the way ParseCSV does (encoding/csv with the
-// same settings, blank records skipped, fields trimmed), for comparison.
+// readAllCSV reads CSV text the way ParseCSV does (text that is not a
+// UTF-8 table refused, encoding/csv with the same settings, blank records
+// skipped, fields trimmed), for comparison.
 func readAllCSV(in string) ([][]string, []int, error) {
-	data, err := dropSeparatorHint([]byte(strings.TrimPrefix(in, "\ufeff")), "x.csv")
+	data := []byte(strings.TrimPrefix(in, "\ufeff"))
+	if err := sniffText(data, "x.csv"); err != nil {
+		return nil, nil, err
+	}
+	data, err := dropSeparatorHint(data, "x.csv")
 	if err != nil {
 		return nil, nil, err
 	}
@@ -292,6 +306,12 @@ func TestCSVStreamMatchesEncodingCSV(t *testing.T) {
 		"sep=;\na;b\n",
 		"\ufeffsep=,\na,b\n",
 		"a,b\nsep=,\n",
+		"a,b\n1,2\xb0\n",
+		"a,b\n\"1\n\xe9\",3\n",
+		"# caf\xe9\na,b\n",
+		"a,b\r1,2\r",
+		"a\tb\n1\t2\n",
+		"\xff\xfea\x00",
 	} {
 		checkStreamMatches(t, in)
 	}

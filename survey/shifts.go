@@ -79,8 +79,10 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // instead of being prorated from the one before). A diagram of one row may
 // leave its stage blank: a shift constant in stage. Diagrams are gathered
 // and checked by gauged.DiagramsFromRows. Every bad cell is reported with
-// its position, and so is the row that makes a diagram fall faster than
-// the stage rises (gauged.ErrShiftSlope). Units written in the stage,
+// its position (a year outside MinYear to MaxYear is ErrYear, a time
+// whose offset, or lack of one, differs from the first time's
+// ErrMixedOffsets), and so is the row that makes a diagram fall faster
+// than the stage rises (gauged.ErrShiftSlope). Units written in the stage,
 // shift and taper headers are reported in Units; an unknown unit
 // (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an error
 // naming the column.
@@ -106,8 +108,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 	var errs errorList
 	var rows []gauged.ShiftRow
 	var recs []Record
+	var form offsetForm
 	for _, rec := range t.Records {
-		r, ok := shiftRow(t, rec, cols, off, &errs)
+		r, ok := shiftRow(t, rec, cols, off, &form, &errs)
 		if ok {
 			rows, recs = append(rows, r), append(recs, rec)
 		}
@@ -134,8 +137,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 	return out, nil
 }
 
-// shiftRow reads one row of a shift table, adding its bad cells to errs.
-func shiftRow(t *Table, rec Record, cols map[string]int, off int64, errs *errorList) (gauged.ShiftRow, bool) {
+// shiftRow reads one row of a shift table, adding its bad cells to errs;
+// form is the form of the table's first time.
+func shiftRow(t *Table, rec Record, cols map[string]int, off int64, form *offsetForm, errs *errorList) (gauged.ShiftRow, bool) {
 	r := gauged.ShiftRow{Source: where(t, rec.Row), Stage: math.NaN()}
 	ok := true
 	bad := func(col int, err error) {
@@ -147,7 +151,10 @@ func shiftRow(t *Table, rec Record, cols map[string]int, off int64, errs *errorL
 	case s == "":
 		bad(ct, ErrBlankTime)
 	default:
-		sec, err := cellTime(s, t.Sheet != "", t.Date1904, off)
+		sec, zoned, err := cellTime(s, t.Sheet != "", t.Date1904, off)
+		if err == nil {
+			err = form.check(rec.Row, zoned)
+		}
 		if err != nil {
 			bad(ct, err)
 		}

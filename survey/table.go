@@ -415,13 +415,31 @@ func normName(s string) string {
 	return strings.NewReplacer(" ", "_", "-", "_").Replace(s)
 }
 
-// Require returns the index of a required column, or a ParseError naming it.
+// ErrAliasColumns is the cause of a header naming one column under two of
+// its names (stage and gauge_height).
+var ErrAliasColumns = errors.New("keep one")
+
+// Require returns the index of a required column, known by any of names
+// (the first is its name, the others its aliases). A missing column is a
+// ParseError naming it (ErrMissingColumn); a header holding it under two
+// of its names is a ParseError at the later of the two columns
+// (ErrAliasColumns: "both stage and gauge_height: keep one").
 func (t *Table) Require(names ...string) (int, error) {
-	if i := t.Column(names...); i >= 0 {
-		return i, nil
+	i := t.Column(names...)
+	if i < 0 {
+		return -1, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
+			Err: fmt.Errorf("%w: the header needs a column named %q (found: %s)", ErrMissingColumn, names[0], headerList(t.Header))}
 	}
-	return -1, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
-		Err: fmt.Errorf("%w: the header needs a column named %q (found: %s)", ErrMissingColumn, names[0], headerList(t.Header))}
+	for _, alias := range names {
+		j := t.Column(alias)
+		if j < 0 || j == i {
+			continue
+		}
+		first, second := min(i, j), max(i, j)
+		return -1, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: second + 1, Name: t.Header[second],
+			Err: fmt.Errorf("both %s and %s: %w", echo(t.Header[first]), echo(t.Header[second]), ErrAliasColumns)}
+	}
+	return i, nil
 }
 
 // At returns a ParseError positioned at a cell of a record.

@@ -789,6 +789,27 @@ func TestTemplateCoordinateRules(t *testing.T) {
 	}
 }
 
+// The template's rule on a gauging's time takes the dates the readers take
+// and no later: its upper end, a workbook date serial, is the last second
+// of MaxYear by excelize's conversion, read as a gauging's time; a second
+// later is refused by the reader. Its lower end is serial 1, 1900-01-01.
+func TestTemplateTimeRule(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Sections: 1, Rows: 10})
+	dv := columnRule(t, openBook(t, path), survey.FieldSheetGaugings, "A")
+	lo, errLo := strconv.ParseFloat(dv.Formula1, 64)
+	hi, errHi := strconv.ParseFloat(dv.Formula2, 64)
+	if errLo != nil || errHi != nil || lo != 1 {
+		t.Fatalf("rule %q to %q", dv.Formula1, dv.Formula2)
+	}
+	last, err := survey.ParseTime(dv.Formula2, true, false)
+	if want := time.Date(survey.MaxYear, 12, 31, 23, 59, 59, 0, time.UTC); err != nil || !last.Equal(want) {
+		t.Errorf("upper end %s read as %v, %v; want %v", dv.Formula2, last, err, want)
+	}
+	if _, err := survey.ParseTime(strconv.FormatFloat(hi+1.0/86400, 'f', -1, 64), true, false); !errors.Is(err, survey.ErrYear) {
+		t.Errorf("a second after the upper end: %v, want ErrYear", err)
+	}
+}
+
 // columnRule returns the validation rule on a template sheet's column,
 // from the first row below its header; the test fails when there is none.
 func columnRule(t *testing.T, f *excelize.File, sheet, col string) *excelize.DataValidation {

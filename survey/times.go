@@ -2,11 +2,8 @@ package survey
 
 import (
 	"errors"
-	"fmt"
 	"strings"
 	"time"
-
-	"github.com/xuri/excelize/v2"
 )
 
 // Causes of a time cell that cannot be read, for errors.Is.
@@ -22,13 +19,17 @@ var timeLayouts = [...]string{
 	time.RFC3339Nano,
 	"2006-01-02T15:04:05Z07:00",
 	"2006-01-02T15:04Z07:00",
+	"2006-01-02 15:04:05Z07:00",
 	"2006-01-02T15:04:05",
 	"2006-01-02T15:04",
-	"2006-01-02 15:04:05Z07:00",
 	"2006-01-02 15:04:05",
 	"2006-01-02 15:04",
 	"2006-01-02",
 }
+
+// zonedLayouts is the number of timeLayouts, at their head, that carry a
+// UTC offset.
+const zonedLayouts = 4
 
 // MinDateSerial and MaxDateSerial bound a workbook date serial taken as a
 // time (1900-01-01 to 9999-12-31 in the 1900 date system).
@@ -41,29 +42,34 @@ const (
 // offset is returned as written, in UTC), or, for a cell of a workbook
 // (inWorkbook), the workbook's date serial number in its date system
 // (date1904), rounded to the second. A bare number in a CSV file is
-// ErrSerialInCSV; anything else unreadable is ErrBadTime.
+// ErrSerialInCSV; a year outside MinYear to MaxYear (as written) is
+// ErrYear; anything else unreadable is ErrBadTime.
 func ParseTime(s string, inWorkbook, date1904 bool) (time.Time, error) {
+	t, _, err := parseTime(s, inWorkbook, date1904)
+	return t, err
+}
+
+// parseTime is ParseTime, also telling whether the text carries a UTC
+// offset of its own (zoned; a serial has none).
+func parseTime(s string, inWorkbook, date1904 bool) (t time.Time, zoned bool, err error) {
 	s = strings.TrimSpace(s)
-	for _, l := range timeLayouts {
+	for i, l := range timeLayouts {
 		if t, err := time.Parse(l, s); err == nil {
-			return t, nil
+			if err := checkYear(int64(t.Year())); err != nil {
+				return time.Time{}, false, err
+			}
+			return t, i < zonedLayouts, nil
 		}
 	}
 	v, err := ParseNumber(s)
 	if err != nil {
-		return time.Time{}, ErrBadTime
+		return time.Time{}, false, ErrBadTime
 	}
 	if !inWorkbook {
-		return time.Time{}, ErrSerialInCSV
+		return time.Time{}, false, ErrSerialInCSV
 	}
-	if v < MinDateSerial || v > MaxDateSerial {
-		return time.Time{}, fmt.Errorf("%w (date serial %g is out of range)", ErrBadTime, v)
-	}
-	t, err := excelize.ExcelDateToTime(v, date1904)
-	if err != nil {
-		return time.Time{}, fmt.Errorf("%w (%v)", ErrBadTime, err)
-	}
-	return t.Round(time.Second), nil
+	t, err = serialTime(v, date1904, ErrBadTime)
+	return t, false, err
 }
 
 // Time parses a date-time cell of a record (see ParseTime; a sheet's

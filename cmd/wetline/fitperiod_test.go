@@ -34,6 +34,7 @@ func TestFitPeriodFlag(t *testing.T) {
 		{"empty", "", 2, "fit: --period is empty", nil},
 		{"blank", "  ", 2, "fit: --period is empty", nil},
 		{"neither end", "..", 2, `fit: --period ".." has neither end`, nil},
+		{"year 1", "0001-01-01..2024-01-01", 2, `fit: --period from "0001-01-01": year 1 is not a plausible year`, nil},
 		{"after every gauging", "2030-01-01..", 1, "fit: --period 2030-01-01..: none of the 24 gaugings of demodata/tallow-gaugings.csv falls in it", nil},
 		{"between two gaugings", "2021-01-14..2021-03-02", 1, "(they run from 2019-05-19T08:45:00Z to 2024-03-02T10:30:00Z)", nil},
 	} {

@@ -78,7 +78,7 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 		if _, err := os.Stat(s); err != nil {
 			t, err := survey.ParseISOTime(s[i+1:], time.Duration(hf.offset))
 			if err != nil {
-				return spec, usagef("%s: --rating %s: the time after @ is %v", hf.cmd, s, err)
+				return spec, usagef("%s: --rating %s: the time after @: %v", hf.cmd, s, err)
 			}
 			spec.path, spec.from, spec.hasFrom = s[:i], t, true
 		}

@@ -202,6 +202,10 @@ func TestRecordRefusals(t *testing.T) {
 	steep := write("steep.csv", "time,stage,shift\n2024-05-01,0.5,0.30\n2024-05-01,0.7,0.05\n")
 	repeated := write("repeated.csv", "time,stage\n2024-05-01T00:00,0.5\n2024-05-01T01:00,0.6\n2024-05-01T01:00,0.7\n")
 	bad := write("bad.csv", "time,stage\n2024-05-01T00:00,0.5\n2024-05-01T01:00,x\n")
+	year1 := write("year1.csv", "time,stage\n0001-01-01T00:00,0.5\n2025-01-01T00:00,0.6\n")
+	mixed := write("mixed.csv", "time,stage\n2024-05-01T00:00,0.5\n2024-05-01T01:00Z,0.6\n")
+	both := write("both.csv", "time,stage,gauge_height\n2024-05-01T00:00,0.5,0.5\n")
+	latin := write("latin.csv", "time,stage\n2024-05-01T00:00,0.5\xb0\n")
 	for _, c := range []struct {
 		name string
 		args []string
@@ -224,6 +228,12 @@ func TestRecordRefusals(t *testing.T) {
 		{"repeated time", []string{"record", repeated, "--rating", recRatingA}, 1, "repeated.csv:4:1"},
 		{"bad stage", []string{"record", bad, "--rating", recRatingA}, 1, "bad.csv:3:2"},
 		{"missing rating file", []string{"record", recStages, "--rating", filepath.Join(dir, "nope.csv")}, 1, "nope.csv"},
+		{"rating time in year 1", []string{"record", recStages, "--rating", recRatingA, "--rating", recRatingB + "@0001-01-01"}, 2, "@0001-01-01: the time after @: year 1 is not a plausible year for a gauge record (1800 to 2200)"},
+		{"reading in year 1", []string{"record", year1, "--rating", recRatingA}, 1, `year1.csv:2:1: time "0001-01-01T00:00": year 1 is not a plausible year`},
+		{"times with and without an offset", []string{"record", mixed, "--rating", recRatingA}, 1,
+			`mixed.csv:3:1: time "2024-05-01T01:00Z": times with and without a UTC offset in one file: row 3 has one, row 2 has none`},
+		{"stage and gauge_height", []string{"record", both, "--rating", recRatingA}, 1, "both.csv:1:3: gauge_height: both stage and gauge_height: keep one"},
+		{"windows-1252 stage", []string{"record", latin, "--rating", recRatingA}, 1, "latin.csv:2:2: is not UTF-8 text"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()

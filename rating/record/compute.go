@@ -375,7 +375,7 @@ func (res *Result) summarize(c *counter) {
 	say(c.flags[bit(AboveGaugings)], "are above the highest gauging of their rating")
 	if c.gaps > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %s are not bridged (the longest %s, from %s)",
-			c.gaps, FormatDuration(res.MaxGap), FormatDuration(time.Duration(c.longest)*time.Second), time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
+			c.gaps, FormatDuration(res.MaxGap), formatSeconds(c.longest), time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
 	}
 }
 
@@ -390,6 +390,27 @@ func FormatDuration(d time.Duration) string {
 		s = strings.TrimSuffix(s, "0m")
 	}
 	return s
+}
+
+// formatSeconds writes a length of time of sec ≥ 0 seconds as
+// FormatDuration writes it (2h, 1h30m, 45m, 26h0m15s) however long it is:
+// in hours, minutes and seconds counted in int64 seconds, where a
+// time.Duration holds at most 292 years.
+func formatSeconds(sec int64) string {
+	h, m, s := sec/3600, sec/60%60, sec%60
+	switch {
+	case h == 0 && m == 0:
+		return fmt.Sprintf("%ds", s)
+	case h == 0 && s == 0:
+		return fmt.Sprintf("%dm", m)
+	case h == 0:
+		return fmt.Sprintf("%dm%ds", m, s)
+	case m == 0 && s == 0:
+		return fmt.Sprintf("%dh", h)
+	case s == 0:
+		return fmt.Sprintf("%dh%dm", h, m)
+	}
+	return fmt.Sprintf("%dh%dm%ds", h, m, s)
 }
 
 // bit is the index of a single flag's bit.

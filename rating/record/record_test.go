@@ -306,6 +306,10 @@ func TestStagesValidate(t *testing.T) {
 		{"repeated time", &Stages{Time: []int64{1, 1}, Stage: []float64{1, 1}}, 1, ErrStagesOrder},
 		{"NaN stage", &Stages{Time: []int64{1, 2}, Stage: []float64{1, math.NaN()}}, 1, ErrStageValue},
 		{"quality index", &Stages{Time: []int64{1}, Stage: []float64{1}, Quality: []uint16{2}, Qualities: []string{"", "ice"}}, 0, ErrQualityIndex},
+		{"span", &Stages{Time: []int64{0, 1, MaxSpan + 1}, Stage: []float64{1, 1, 1}}, 2, ErrStagesSpan},
+		{"before year 1", &Stages{Time: []int64{minTime - 1, 0}, Stage: []float64{1, 1}}, 0, ErrStagesTime},
+		{"after year 9999", &Stages{Time: []int64{0, maxTime + 1}, Stage: []float64{1, 1}}, 1, ErrStagesTime},
+		{"at the ends of int64", &Stages{Time: []int64{math.MinInt64, math.MaxInt64}, Stage: []float64{1, 1}}, 0, ErrStagesTime},
 	} {
 		err := tc.st.Validate()
 		var se *StagesError
@@ -346,6 +350,56 @@ func TestRecordGaugings(t *testing.T) {
 	}
 	if compute(t, stages(0, 2, 6, 2), rater(t, h), Options{}).Gaugings != nil {
 		t.Error("gaugings without any given")
+	}
+}
+
+// TestFormatSeconds: a length of time in seconds is written as
+// FormatDuration writes the time.Duration (the standard library's
+// Duration.String, the reference) wherever a Duration holds it, on seeded
+// random lengths up to 200 years and on the edges; beyond 292 years, where
+// a Duration overflows, by hand: 146 461 days of 24 h are 3 515 064 h.
+func TestFormatSeconds(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 1))
+	secs := []int64{0, 1, 59, 60, 61, 3599, 3600, 3601, 3660, 86400, 90061}
+	for range 2000 {
+		secs = append(secs, rng.Int64N(200*36525*864))
+		secs = append(secs, rng.Int64N(100000))
+	}
+	for _, s := range secs {
+		if got, want := formatSeconds(s), FormatDuration(time.Duration(s)*time.Second); got != want {
+			t.Fatalf("%d s: %q, want %q", s, got, want)
+		}
+	}
+	if got := formatSeconds(146461 * 86400); got != "3515064h" {
+		t.Errorf("146 461 days: %q", got)
+	}
+	if got := formatSeconds(MaxSpan + 61); got != "4383000h1m1s" { // 500 · 365.25 · 24 h = 4 383 000 h
+		t.Errorf("MaxSpan + 61 s: %q", got)
+	}
+}
+
+// TestLongestSpan: a record from 1800-01-01 to 2200-12-31 (401 years, the
+// widest the readers take) is computed: its daily table has one value a
+// day, 401·365 + 97 leap days − 1 = 146 461 days apart plus the first,
+// 146 462 (Gregorian rule: every fourth year but 1800, 1900, 2100 and
+// 2200); its gap, from 00:15 on the first day to the last day's midnight,
+// is stated in hours, 146 461 · 24 h − 15 min = 3 515 063 h 45 min, where
+// a time.Duration (at most 292 years) would overflow.
+func TestLongestSpan(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	st := &Stages{Name: "long", Time: []int64{
+		time.Date(1800, 1, 1, 0, 0, 0, 0, time.UTC).Unix(), time.Date(1800, 1, 1, 0, 15, 0, 0, time.UTC).Unix(),
+		time.Date(2200, 12, 31, 0, 0, 0, 0, time.UTC).Unix(),
+	}, Stage: []float64{1, 1, 1}}
+	res := compute(t, st, r, Options{})
+	if len(res.Daily) != 401*365+97 {
+		t.Errorf("%d daily values, want %d", len(res.Daily), 401*365+97)
+	}
+	if last := res.Daily[len(res.Daily)-1].Date; !last.Equal(time.Date(2200, 12, 31, 0, 0, 0, 0, time.UTC)) {
+		t.Errorf("last day %v", last)
+	}
+	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "1 gaps longer than 2h are not bridged (the longest 3515063h45m, from 1800-01-01T00:15:00Z)") {
+		t.Errorf("warnings %q", res.Warnings)
 	}
 }
 

@@ -35,6 +35,22 @@ var (
 	ErrStageValue   = errors.New("a gauge height must be a finite number")
 	ErrQualityIndex = errors.New("a reading's quality is not among the record's qualities")
 	ErrNoReadings   = errors.New("the stage record has no readings")
+	ErrStagesSpan   = errors.New("the stage record spans more than 500 years")
+	ErrStagesTime   = errors.New("a reading's time must lie in the years 0001 to 9999")
+)
+
+// MaxSpan bounds the time from a record's first reading to its last, in
+// seconds: 500 years of 365.25 days. The survey readers take times of the
+// years 1800 to 2200 only, so every record read from a file lies within
+// it; the bound keeps the daily table, one value a day, within 182 625
+// days, and every interval between readings far within int64 seconds.
+const MaxSpan int64 = 500 * 36525 * 864
+
+// minTime and maxTime bound a reading's time (Unix seconds): the years
+// 0001 to 9999, which RFC 3339 writes.
+var (
+	minTime = time.Date(1, 1, 1, 0, 0, 0, 0, time.UTC).Unix()
+	maxTime = time.Date(9999, 12, 31, 23, 59, 59, 0, time.UTC).Unix()
 )
 
 // A StagesError reports a reading of a stage record that cannot be used.
@@ -54,7 +70,10 @@ func (e *StagesError) Error() string {
 func (e *StagesError) Unwrap() error { return e.Err }
 
 // Validate checks the record and returns the first problem as a
-// *StagesError, or nil.
+// *StagesError, or nil: arrays of unequal length, times outside the years
+// 0001 to 9999 (ErrStagesTime) or not ascending, a first and a last reading
+// more than MaxSpan apart (ErrStagesSpan), gauge heights not finite,
+// qualities not among Qualities.
 func (s *Stages) Validate() error {
 	n := len(s.Time)
 	if n == 0 {
@@ -64,6 +83,9 @@ func (s *Stages) Validate() error {
 		return &StagesError{Index: -1, Err: fmt.Errorf("%w: %d times, %d stages, %d qualities", ErrStagesLength, n, len(s.Stage), len(s.Quality))}
 	}
 	for i, t := range s.Time {
+		if t < minTime || t > maxTime {
+			return &StagesError{Index: i, Err: fmt.Errorf("%w: %d seconds from 1970-01-01T00:00:00Z", ErrStagesTime, t)}
+		}
 		if i > 0 && t <= s.Time[i-1] {
 			return &StagesError{Index: i, Err: fmt.Errorf("%w: %s after %s", ErrStagesOrder, utc(t), utc(s.Time[i-1]))}
 		}
@@ -73,6 +95,9 @@ func (s *Stages) Validate() error {
 		if s.Quality != nil && int(s.Quality[i]) >= max(1, len(s.Qualities)) {
 			return &StagesError{Index: i, Err: ErrQualityIndex}
 		}
+	}
+	if first, last := s.Time[0], s.Time[n-1]; last-first > MaxSpan {
+		return &StagesError{Index: n - 1, Err: fmt.Errorf("%w: from %s to %s", ErrStagesSpan, utc(first), utc(last))}
 	}
 	return nil
 }
