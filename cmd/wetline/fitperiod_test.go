@@ -104,15 +104,15 @@ func TestFitOffsetFlag(t *testing.T) {
 // gaugings' times at that offset (RFC 3339 with it in text, CSV and JSON;
 // the wall clock there in a workbook's date cells, the summary naming the
 // zone), whatever offset each was written with; without it each time keeps
-// the offset it was written with. By hand: 09:00 written without an offset
-// is 09:00+10:00; 00:00Z is 10:00+10:00; 12:00−05:00 is 17:00Z, 03:00+10:00
-// the next day.
+// the offset it was written with. (A file gives every time with an offset
+// or none.) By hand: 23:00Z is 09:00+10:00 the next day; 00:00Z is
+// 10:00+10:00; 12:00−05:00 is 17:00Z, 03:00+10:00 the next day.
 func TestFitReportsAtOffset(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	var b strings.Builder
 	b.WriteString("time,gauge_height,discharge,quality\n")
-	times := []string{"2025-07-31T09:00", "2025-08-01T00:00Z", "2025-08-02T12:00-05:00", "2025-08-03T09:00", "2025-08-04T09:00", "2025-08-05T09:00"}
+	times := []string{"2025-07-30T23:00Z", "2025-08-01T00:00Z", "2025-08-02T12:00-05:00", "2025-08-02T23:00Z", "2025-08-03T23:00Z", "2025-08-04T23:00Z"}
 	for i, h := range []float64{0.5, 0.7, 0.9, 1.2, 1.6, 2.0} {
 		fmt.Fprintf(&b, "%s,%g,%.6g,good\n", times[i], h, 8*math.Pow(h-0.3, 2)) // an invented power law
 	}
@@ -121,7 +121,7 @@ func TestFitReportsAtOffset(t *testing.T) {
 		t.Fatal(err)
 	}
 	local := []string{"2025-07-31T09:00:00+10:00", "2025-08-01T10:00:00+10:00", "2025-08-03T03:00:00+10:00"}
-	asRead := []string{"2025-07-31T09:00:00Z", "2025-08-01T00:00:00Z", "2025-08-02T12:00:00-05:00"}
+	asRead := []string{"2025-07-30T23:00:00Z", "2025-08-01T00:00:00Z", "2025-08-02T12:00:00-05:00"}
 	fit := func(extra ...string) string {
 		t.Helper()
 		out, errs, code := runCLI(t, append([]string{"fit", gaugings}, extra...)...)
