@@ -97,7 +97,8 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // discharge columns (any table wetline writes of a rating, or one an office
 // keeps), or, when the table has a valid_from column, one rating per
 // valid_from time (a blank valid_from, or the same instant as the row
-// above, continues the rating above). Rows
+// above, continues the rating above). Stage and discharge are bounded as
+// in RatingFromTable (ErrImplausible at the cell). Rows
 // must ascend in stage with discharge rising once above zero (see
 // gauged.RatingTable.Validate); periods must ascend in time. Units written
 // in the stage and discharge headers are reported in Units; an unknown
@@ -145,9 +146,10 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 			groups = append(groups, ratingGroup{from: opt.From, fromRec: rec})
 		}
 		g := &groups[len(groups)-1]
-		h, okh := ratingNumber(t, rec, cs, &errs)
-		q, okq := ratingNumber(t, rec, cq, &errs)
-		if okh && okq {
+		h, errh := t.number(rec, cs, "stage", MaxElevation)
+		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
+		errs.add(errh, errq)
+		if errh == nil && errq == nil {
 			g.points = append(g.points, gauged.RatingPoint{Stage: rating.DecimalDifference(h, opt.Datum), Discharge: q})
 			g.recs = append(g.recs, rec)
 			g.extrapolated = append(g.extrapolated, cx >= 0 && yesWord(t.Cell(rec, cx)))
@@ -222,20 +224,6 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 			where(t, g.recs[0].Row), g.points[0].Stage))
 	}
 	return gauged.Period{From: g.from, Rating: rt}, nil
-}
-
-// ratingNumber reads a required number cell of a rating table.
-func ratingNumber(t *Table, rec Record, col int, errs *errorList) (float64, bool) {
-	v, ok, err := t.Float(rec, col)
-	switch {
-	case err != nil:
-		*errs = append(*errs, err.(*ParseError))
-		return 0, false
-	case !ok:
-		*errs = append(*errs, t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, t.Header[col])))
-		return 0, false
-	}
-	return v, true
 }
 
 // yesWord reads a yes/true cell.

@@ -77,7 +77,9 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // shift, optional taper (the gauge height at which the diagram's shift
 // reaches zero) and abrupt (yes: the diagram takes effect at its time
 // instead of being prorated from the one before). A diagram of one row may
-// leave its stage blank: a shift constant in stage. Diagrams are gathered
+// leave its stage blank: a shift constant in stage. Stages, taper stages
+// and shifts are bounded by ±MaxElevation, as stages are wherever they are
+// read (ErrImplausible at the cell). Diagrams are gathered
 // and checked by gauged.DiagramsFromRows. Every bad cell is reported with
 // its position, and so is the row that makes a diagram fall faster than
 // the stage rises (gauged.ErrShiftSlope). Units written in the stage,
@@ -153,23 +155,23 @@ func shiftRow(t *Table, rec Record, cols map[string]int, off int64, errs *errorL
 		}
 		r.Time = time.Unix(sec, 0).UTC()
 	}
-	number := func(col int, need bool) (float64, bool) {
-		v, has, err := t.Float(rec, col)
+	number := func(col int, what string, need bool) (float64, bool) {
+		v, has, err := t.bounded(rec, col, what, MaxElevation)
 		switch {
 		case err != nil:
-			*errs = append(*errs, err.(*ParseError))
+			*errs = append(*errs, err)
 			ok = false
 		case !has && need:
 			bad(col, fmt.Errorf("%w: %s is blank", ErrNotNumber, t.Header[col]))
 		}
-		return v, has && err == nil
+		return v, has
 	}
-	r.Shift, _ = number(cols[ColShift], true)
-	if v, has := number(cols[ColShiftStage], false); has {
+	r.Shift, _ = number(cols[ColShift], ColShift, true)
+	if v, has := number(cols[ColShiftStage], ColShiftStage, false); has {
 		r.Stage = v
 	}
 	if c := cols[ColShiftTaper]; c >= 0 {
-		r.Taper, r.HasTaper = number(c, false)
+		r.Taper, r.HasTaper = number(c, ColShiftTaper, false)
 	}
 	if c := cols[ColShiftAbrupt]; c >= 0 {
 		switch strings.ToLower(t.Cell(rec, c)) {

@@ -462,6 +462,36 @@ func (t *Table) Float(rec Record, col int) (v float64, ok bool, err error) {
 	return v, true, nil
 }
 
+// bounded is Float for a value with a plausible bound: a number beyond
+// ±limit is not read (ok false) and is a *ParseError at its cell wrapping
+// ErrImplausible, what naming the value ("stage 1e+06 is not a plausible
+// value (beyond ±100000)"). A blank cell returns ok false and no error.
+func (t *Table) bounded(rec Record, col int, what string, limit float64) (v float64, ok bool, err *ParseError) {
+	s := t.Cell(rec, col)
+	if s == "" {
+		return 0, false, nil
+	}
+	v, perr := ParseNumber(s)
+	switch {
+	case perr != nil:
+		return 0, false, t.At(rec, col, perr)
+	case math.Abs(v) > limit:
+		return v, false, t.At(rec, col, implausible(what, v, limit))
+	}
+	return v, true, nil
+}
+
+// number reads a number cell that must be given, within ±limit (see
+// bounded); a blank cell is a *ParseError at the cell wrapping
+// ErrNotNumber ("stage is blank").
+func (t *Table) number(rec Record, col int, what string, limit float64) (float64, *ParseError) {
+	v, ok, err := t.bounded(rec, col, what, limit)
+	if err == nil && !ok {
+		err = t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
+	}
+	return v, err
+}
+
 // ParseNumber reads a finite decimal number written with a decimal point.
 func ParseNumber(s string) (float64, error) {
 	s = strings.TrimSpace(s)
