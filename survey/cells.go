@@ -13,7 +13,10 @@ import (
 // (sheet "" is the first); name is used in messages. It is ReadTable for
 // a workbook that is not in a file.
 func ParseWorkbook(r io.Reader, name, sheet string) (*Table, error) {
-	lim := limits()
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
 	data, err := io.ReadAll(io.LimitReader(r, lim.Bytes+1))
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}

@@ -153,8 +153,12 @@ type tableBuilder struct {
 	cells int
 }
 
-func newTableBuilder(file, sheet string) *tableBuilder {
-	return &tableBuilder{t: &Table{File: file, Sheet: sheet}, lim: limits()}
+func newTableBuilder(file, sheet string) (*tableBuilder, error) {
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
+	return &tableBuilder{t: &Table{File: file, Sheet: sheet}, lim: lim}, nil
 }
 
 // header sets the header row: trailing blank names are dropped, and a
@@ -221,6 +225,10 @@ func (b *tableBuilder) row(rec []string, row int) error {
 // the cells under the header. A table beyond the limits (see Limits) is an
 // error that says the limit.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
+	b, err := newTableBuilder(name, "")
+	if err != nil {
+		return nil, err
+	}
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
@@ -232,7 +240,6 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	if data, err = dropSeparatorHint(data, name); err != nil {
 		return nil, err
 	}
-	b := newTableBuilder(name, "")
 	b.t.Meta = csvMeta(data)
 	cr := csv.NewReader(bytes.NewReader(data))
 	cr.Comment = '#'
@@ -329,7 +336,10 @@ func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	if err != nil {
 		return nil, err
 	}
-	b := newTableBuilder(path, sheet)
+	b, err := newTableBuilder(path, sheet)
+	if err != nil {
+		return nil, err
+	}
 	b.t.Sheets = sheets
 	b.t.Warnings = warnings
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
