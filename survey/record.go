@@ -89,7 +89,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // bad cell is reported with its position (file:row:column), at most
 // MaxReported of them: an unreadable time or stage, a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
-// the row before). A header naming a column twice is refused
+// the row before), a value after the header's last named column
+// (ErrBeyondHeader). A header naming a column twice is refused
 // (ErrDuplicateColumn). A row with a time and a blank stage
 // is a missing reading: it is left out and counted in Blank.
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
@@ -197,6 +198,7 @@ type stageBuilder struct {
 	off                  int64
 	header               []string
 	headerRow            int
+	width                int // columns up to the header's last named one
 	ct, cs, cq           int
 	out                  *StageRecord
 	quality              map[string]uint16
@@ -232,6 +234,10 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	b.header, b.headerRow = h, row
+	b.width = len(h)
+	for b.width > 0 && h[b.width-1] == "" {
+		b.width--
+	}
 	st := &b.out.Stages
 	st.Time = make([]int64, 0, sizeHint)
 	st.Stage = make([]float64, 0, sizeHint)
@@ -248,8 +254,13 @@ func (b *stageBuilder) fail(row, col int, text []byte, err error) {
 	b.errs.add(&ParseError{File: b.file, Sheet: b.sheet, Row: row, Column: col + 1, Name: b.header[col], Text: string(text), Err: err})
 }
 
-// row reads one data row.
+// row reads one data row; a value after the header's last named column
+// is an error (ErrBeyondHeader) at its cell.
 func (b *stageBuilder) row(fields [][]byte, row int) {
+	if c := beyondHeader(fields, b.width); c >= 0 {
+		b.errs.add(beyondHeaderError(b.file, b.sheet, row, c, string(fields[c])))
+		return
+	}
 	cell := func(c int) []byte {
 		if c < 0 || c >= len(fields) {
 			return nil

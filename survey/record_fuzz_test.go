@@ -37,6 +37,7 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
 	f.Add("time,stage,stage\n2024-05-01T00:00,1.2,1.3\n", int8(0))
 	f.Add("time,stage\n2024-05-01T00:00,1e308\n2024-05-01T00:15,-9999\n", int8(0))
+	f.Add("time,stage,,\n2024-05-01T00:00,1,,\n2024-05-01T00:15,1,5\n\"2024-05-01T00:30\",1,,\"x\"\n", int8(0))
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
 		off := time.Duration(offsetHours%15) * time.Hour
 		r, err := ParseStageRecord(strings.NewReader(in), "f.csv", StageRecordOptions{UTCOffset: off})

@@ -192,9 +192,36 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 	return nil
 }
 
-// row adds a data row, keeping only the cells under the header.
+// ErrBeyondHeader is the cause of a value in a column after the header's
+// last named column (often an unquoted decimal comma that shifts a row).
+var ErrBeyondHeader = errors.New("a value beyond the header's last column")
+
+// beyondHeader returns the 0-based column of the first cell of rec at or
+// after width that is not blank, or -1.
+func beyondHeader[S ~string | ~[]byte](rec []S, width int) int {
+	for i := width; i < len(rec); i++ {
+		if len(strings.TrimSpace(string(rec[i]))) > 0 {
+			return i
+		}
+	}
+	return -1
+}
+
+// beyondHeaderError is the ParseError of a value text at 0-based column
+// col of a row, after the header's last named column.
+func beyondHeaderError(file, sheet string, row, col int, text string) *ParseError {
+	return &ParseError{File: file, Sheet: sheet, Row: row, Column: col + 1, Text: text,
+		Err: fmt.Errorf("%w (%q): name its column in the header, or quote a value that holds a comma", ErrBeyondHeader, echo(strings.TrimSpace(text)))}
+}
+
+// row adds a data row, keeping only the cells under the header; a value
+// after the header's last named column is an error (ErrBeyondHeader) at
+// its cell, blank cells there being dropped.
 func (b *tableBuilder) row(rec []string, row int) error {
 	if len(rec) > len(b.t.Header) {
+		if c := beyondHeader(rec, len(b.t.Header)); c >= 0 {
+			return beyondHeaderError(b.t.File, b.t.Sheet, row, c, rec[c])
+		}
 		rec = rec[:len(b.t.Header)]
 	}
 	cells := trimAll(rec)
@@ -222,7 +249,9 @@ func (b *tableBuilder) row(rec []string, row int) error {
 // of another separator refused). Lines starting with '#' are
 // comments ("# key: value" lines above the header are kept in Meta), a
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
-// the cells under the header. A table beyond the limits (see Limits) is an
+// the cells under the header: blank cells after the header's last named
+// column are dropped, a value there is an error at its cell
+// (ErrBeyondHeader). A table beyond the limits (see Limits) is an
 // error that says the limit.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
 	b, err := newTableBuilder(name, "")
@@ -328,7 +357,8 @@ func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error)
 
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
 // the first visible sheet, see chooseSheet). Cells are read raw: numbers
-// as written, dates as serials. Two-cell rows above the header whose
+// as written, dates as serials. A value after the header's last named
+// column is an error at its cell (ErrBeyondHeader), as in ParseCSV. Two-cell rows above the header whose
 // first cell is one of MetaKeys are kept in Meta.
 func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
