@@ -81,7 +81,7 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 			return nil, err
 		}
 		defer f.Close()
-		return sheetTable(f, path, preferSheet(f, sheet, prefer))
+		return sheetTable(f, path, preferSheet(f.File, sheet, prefer))
 	}
 	data, err := readInput(path)
 	if err != nil {
@@ -93,7 +93,7 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 			return nil, err
 		}
 		defer f.Close()
-		return sheetTable(f, path, preferSheet(f, sheet, prefer))
+		return sheetTable(f, path, preferSheet(f.File, sheet, prefer))
 	}
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
@@ -122,7 +122,7 @@ var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWo
 // workbook file opens it here, so the file is always a regular file
 // within the limits and its zip directory and sheets are checked first
 // (CheckWorkbookZip).
-func openWorkbook(path string) (*excelize.File, error) {
+func openWorkbook(path string) (*inputBook, error) {
 	data, err := readInput(path)
 	if err != nil {
 		return nil, err
@@ -130,17 +130,46 @@ func openWorkbook(path string) (*excelize.File, error) {
 	return openWorkbookBytes(data, path)
 }
 
+// inputBook is a workbook opened to be read, with what the check of its
+// zip archive found of its sheets.
+type inputBook struct {
+	*excelize.File
+	// unsaved holds, by sheet name, the cells with a formula and no saved
+	// value.
+	unsaved map[string]unsavedCells
+}
+
 // openWorkbookBytes opens a workbook held in memory; name is used in
 // messages.
-func openWorkbookBytes(data []byte, name string) (*excelize.File, error) {
-	if err := CheckWorkbookZip(bytes.NewReader(data), int64(len(data))); err != nil {
+func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
+	unsaved, err := checkWorkbookZip(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
 	f, err := excelize.OpenReader(bytes.NewReader(data), workbookOptions)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	return f, nil
+	return &inputBook{File: f, unsaved: unsaved}, nil
+}
+
+// ErrFormulaNoValue is the cause of a formula cell whose value was never
+// saved (a program that does not compute formulas wrote the workbook): it
+// would read as blank.
+var ErrFormulaNoValue = errors.New("a formula with no saved value: open and save the workbook in a spreadsheet program")
+
+// unsavedError is the ParseError at the first cell of a sheet holding a
+// formula with no saved value, nil when the sheet has none.
+func (f *inputBook) unsavedError(path, sheet string) error {
+	u, ok := f.unsaved[sheet]
+	if !ok {
+		return nil
+	}
+	err := ErrFormulaNoValue
+	if u.count > 1 {
+		err = fmt.Errorf("%w (%d such cells in the sheet)", ErrFormulaNoValue, u.count)
+	}
+	return &ParseError{File: path, Sheet: sheet, Row: u.row, Column: u.col, Err: err}
 }
 
 // ErrDuplicateColumn is the cause of a header naming a column twice.
@@ -331,9 +360,19 @@ func HiddenSheetWarning(path, sheet string) string {
 // sheet itself when named (it must exist; a hidden one is read, with a
 // warning), or else the first visible sheet, a hidden sheet before it
 // being passed over (it may hold an old survey). Every reader of a
-// workbook sheet chooses it here. Errors: no such sheet, no sheets, or
-// ErrNoVisibleSheet.
-func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error) {
+// workbook sheet chooses it here. Errors: no such sheet, no sheets,
+// ErrNoVisibleSheet, or ErrFormulaNoValue at the first cell of the sheet
+// chosen that holds a formula with no saved value.
+func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
+	sheet, warnings, err := pickSheet(f.File, path, sheet)
+	if err == nil {
+		err = f.unsavedError(path, sheet)
+	}
+	return sheet, warnings, err
+}
+
+// pickSheet is chooseSheet without the check of formulas.
+func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 	sheets := f.GetSheetList()
 	if sheet != "" {
 		if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
@@ -360,7 +399,7 @@ func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error)
 // as written, dates as serials. A value after the header's last named
 // column is an error at its cell (ErrBeyondHeader), as in ParseCSV. Two-cell rows above the header whose
 // first cell is one of MetaKeys are kept in Meta.
-func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
+func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	sheet, warnings, err := chooseSheet(f, path, sheet)
 	if err != nil {
@@ -644,8 +683,8 @@ func SurveySheets(path string) ([]SheetSurvey, error) {
 	defer f.Close()
 	var out []SheetSurvey
 	for _, sheet := range f.GetSheetList() {
-		ok, err := hasSurveyHeader(f, sheet)
-		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f, sheet)}
+		ok, err := hasSurveyHeader(f.File, sheet)
+		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f.File, sheet)}
 		if err != nil {
 			s.Err = &ParseError{File: path, Sheet: sheet, Err: err}
 		}
