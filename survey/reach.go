@@ -645,6 +645,9 @@ type BoundaryRating struct {
 	Points []reach.StageDischarge
 	// Rows are the 1-based lines or sheet rows of Points.
 	Rows []int
+	// Warnings are unusual but legal facts about where it was read (a
+	// hidden sheet).
+	Warnings []string
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or
@@ -658,7 +661,9 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 	if err != nil {
 		return BoundaryRating{}, err
 	}
-	return BoundaryRatingFromTable(t)
+	br, err := BoundaryRatingFromTable(t)
+	br.Warnings = append(t.Warnings, br.Warnings...)
+	return br, err
 }
 
 // BoundaryRatingFromTable reads the stage and discharge columns of t. Both

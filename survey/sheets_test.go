@@ -200,3 +200,46 @@ func TestHiddenSheetStageRecord(t *testing.T) {
 		}
 	}
 }
+
+// A boundary rating and shift diagrams read from a hidden sheet carry the
+// hidden-sheet warning, as sections and gaugings do: the boundary rating
+// from a hidden sheet named rating (read when no sheet is named), the
+// shifts from a hidden sheet named. A visible sheet gives no warning.
+func TestHiddenSheetRatingAndShifts(t *testing.T) {
+	t.Parallel()
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "current")
+	f.NewSheet("rating")
+	f.NewSheet("shifts")
+	for _, s := range []string{"current", "rating"} {
+		f.SetSheetRow(s, "A1", &[]any{"stage", "discharge"})
+		f.SetSheetRow(s, "A2", &[]any{1.0, 0})
+		f.SetSheetRow(s, "A3", &[]any{2.0, 5})
+	}
+	f.SetSheetRow("shifts", "A1", &[]any{"time", "stage", "shift"})
+	f.SetSheetRow("shifts", "A2", &[]any{"2024-03-01T00:00:00Z", 1.0, 0.1})
+	f.SetActiveSheet(0)
+	for _, s := range []string{"rating", "shifts"} {
+		if err := f.SetSheetVisible(s, false); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	hidden := func(ws []string, sheet string) bool {
+		return len(ws) == 1 && ws[0] == HiddenSheetWarning(path, sheet)
+	}
+	br, err := ReadBoundaryRating(path, "")
+	if err != nil || br.Sheet != "rating" || !hidden(br.Warnings, "rating") {
+		t.Errorf("boundary rating from sheet %q: warnings %q, %v; want the hidden-sheet warning", br.Sheet, br.Warnings, err)
+	}
+	if br, err := ReadBoundaryRating(path, "current"); err != nil || len(br.Warnings) != 0 {
+		t.Errorf("boundary rating from a visible sheet: warnings %q, %v", br.Warnings, err)
+	}
+	ds, err := ReadShiftDiagrams(path, ShiftTableOptions{Sheet: "shifts"})
+	if err != nil || !hidden(ds.Warnings, "shifts") {
+		t.Errorf("shift diagrams: warnings %q, %v; want the hidden-sheet warning", ds.Warnings, err)
+	}
+}

@@ -48,6 +48,9 @@ type ShiftDiagrams struct {
 	// Units is what the stage, shift and taper headers say of the unit
 	// system ("shift (ft)"); nothing is converted.
 	Units UnitNote
+	// Warnings are unusual but legal facts about where they were read (a
+	// hidden sheet).
+	Warnings []string
 }
 
 // ErrAbruptWord is the cause of an abrupt cell that is not a yes or a no.
@@ -60,7 +63,9 @@ func ReadShiftDiagrams(path string, opt ShiftTableOptions) (ShiftDiagrams, error
 	if err != nil {
 		return ShiftDiagrams{}, err
 	}
-	return ShiftDiagramsFromTable(t, opt)
+	ds, err := ShiftDiagramsFromTable(t, opt)
+	ds.Warnings = append(t.Warnings, ds.Warnings...)
+	return ds, err
 }
 
 // ParseShiftDiagrams reads shift diagrams from CSV text; name is used in
