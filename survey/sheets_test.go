@@ -1,10 +1,8 @@
 package survey
 
 import (
-	"archive/zip"
 	"bytes"
 	"errors"
-	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -58,27 +56,14 @@ func TestSurveySheetsBadSheetAlone(t *testing.T) {
 	if err := f.Write(&buf); err != nil {
 		t.Fatal(err)
 	}
-	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out bytes.Buffer
-	zw := zip.NewWriter(&out)
-	for _, zf := range zr.File {
-		w, _ := zw.Create(zf.Name)
-		rc, _ := zf.Open()
-		data, _ := io.ReadAll(rc)
-		rc.Close()
-		if zf.Name == "xl/worksheets/sheet2.xml" {
-			data = []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
+	spoiled := rewriteZip(t, buf.Bytes(), func(name string, data []byte) []byte {
+		if name == "xl/worksheets/sheet2.xml" {
+			return []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
 		}
-		w.Write(data)
-	}
-	if err := zw.Close(); err != nil {
-		t.Fatal(err)
-	}
+		return data
+	})
 	path := filepath.Join(t.TempDir(), "spoiled.xlsx")
-	if err := os.WriteFile(path, out.Bytes(), 0o644); err != nil {
+	if err := os.WriteFile(path, spoiled, 0o644); err != nil {
 		t.Fatal(err)
 	}
 	got, err := SurveySheets(path)
