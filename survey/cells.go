@@ -3,9 +3,12 @@ package survey
 import (
 	"archive/zip"
 	"bufio"
+	"bytes"
+	"encoding/xml"
 	"errors"
 	"fmt"
 	"io"
+	"path"
 	"strings"
 )
 
@@ -13,7 +16,10 @@ import (
 // (sheet "" is the first); name is used in messages. It is ReadTable for
 // a workbook that is not in a file.
 func ParseWorkbook(r io.Reader, name, sheet string) (*Table, error) {
-	lim := limits()
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
 	data, err := io.ReadAll(io.LimitReader(r, lim.Bytes+1))
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
@@ -40,17 +46,36 @@ const MaxDeflateRatio = 1100
 var ErrWorkbookZip = errors.New("not a usable workbook (damaged or forged zip directory)")
 
 // CheckWorkbookZip checks a workbook's zip directory before the workbook
-// is opened: the unpacked size claimed by each entry must be one deflate
-// can produce from its packed size, and all entries together must stay
-// within MaxWorkbookBytes. The spreadsheet library allocates what an entry
-// claims, so a small damaged file could otherwise take gigabytes of memory.
+// is opened: the file must be a zip archive (ErrNotWorkbook when it is
+// not, saying when it looks like a text file renamed), the unpacked size
+// claimed by each entry must be one deflate can produce from its packed
+// size, and all entries together must stay within MaxWorkbookBytes. The
+// spreadsheet library allocates what an entry claims, so a small damaged
+// file could otherwise take gigabytes of memory. The rows of every sheet
+// must rise (ErrRowOrder).
 func CheckWorkbookZip(r io.ReaderAt, size int64) error {
+	_, err := checkWorkbookZip(r, size)
+	return err
+}
+
+// unsavedCells are the cells of a sheet holding a formula with no saved
+// value: the first (1-based column and row) and how many.
+type unsavedCells struct {
+	col, row, count int
+}
+
+// checkWorkbookZip is CheckWorkbookZip; it also returns, by sheet name,
+// the formula cells of each sheet that have no saved value.
+func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]unsavedCells, error) {
 	if size > MaxWorkbookBytes {
-		return fmt.Errorf("%w: larger than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
+		return nil, fmt.Errorf("%w: larger than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
+	}
+	if err := zipSignature(r, size); err != nil {
+		return nil, err
 	}
 	zr, err := zip.NewReader(r, size)
 	if err != nil {
-		return fmt.Errorf("%w: %v", ErrWorkbookZip, err)
+		return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, err)
 	}
 	var total uint64
 	for _, f := range zr.File {
@@ -59,21 +84,73 @@ func CheckWorkbookZip(r io.ReaderAt, size int64) error {
 			limit = f.CompressedSize64
 		}
 		if f.UncompressedSize64 > limit {
-			return fmt.Errorf("%w: %s claims %d bytes from %d", ErrWorkbookZip, f.Name, f.UncompressedSize64, f.CompressedSize64)
+			return nil, fmt.Errorf("%w: %s claims %d bytes from %d", ErrWorkbookZip, f.Name, f.UncompressedSize64, f.CompressedSize64)
 		}
 		total += f.UncompressedSize64
 		if total > MaxWorkbookBytes {
-			return fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
+			return nil, fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 		}
 	}
+	byPart := map[string]unsavedCells{}
 	for _, f := range zr.File {
 		if strings.HasPrefix(f.Name, "xl/worksheets/") && strings.HasSuffix(f.Name, ".xml") {
-			if err := checkRowOrder(f); err != nil {
-				return err
+			u, err := scanSheet(f)
+			if err != nil {
+				return nil, err
+			}
+			if u.count > 0 {
+				byPart[f.Name] = u
 			}
 		}
 	}
-	return nil
+	if len(byPart) == 0 {
+		return nil, nil
+	}
+	parts, err := sheetParts(zr)
+	if err != nil {
+		return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, err)
+	}
+	out := map[string]unsavedCells{}
+	for name, part := range parts {
+		if u, ok := byPart[part]; ok {
+			out[name] = u
+		}
+	}
+	return out, nil
+}
+
+// ErrNotWorkbook is the cause of a file read as a workbook that is not a
+// zip archive.
+var ErrNotWorkbook = errors.New("not a workbook (an .xlsx file is a zip archive)")
+
+// zipSignature refuses data that does not start as a zip archive does
+// (zipMagic), saying when it looks like text that it may be a CSV file
+// renamed.
+func zipSignature(r io.ReaderAt, size int64) error {
+	head := make([]byte, min(size, 4096))
+	n, err := r.ReadAt(head, 0)
+	if err != nil && err != io.EOF {
+		return fmt.Errorf("%w: %v", ErrWorkbookZip, err)
+	}
+	head = head[:n]
+	if bytes.HasPrefix(head, zipMagic) {
+		return nil
+	}
+	if textLike(head) {
+		return fmt.Errorf("%w; it holds text: it may be a CSV file renamed .xlsx, so give it its .csv name", ErrNotWorkbook)
+	}
+	return ErrNotWorkbook
+}
+
+// textLike reports data of text: not empty, and no control bytes other
+// than tabs and line ends (text of any 8-bit encoding or UTF-8 passes).
+func textLike(b []byte) bool {
+	for _, c := range b {
+		if (c < 0x20 && c != '\t' && c != '\n' && c != '\r') || c == 0x7f {
+			return false
+		}
+	}
+	return len(b) > 0
 }
 
 // ErrRowOrder is the cause of a sheet whose rows are out of order or
@@ -81,79 +158,284 @@ func CheckWorkbookZip(r io.ReaderAt, size int64) error {
 // only guess at.
 var ErrRowOrder = errors.New("a sheet's rows are out of order or repeated")
 
-// checkRowOrder scans a worksheet's XML for its row elements and checks
-// their numbers (the r attribute) rise strictly.
-func checkRowOrder(f *zip.File) error {
+// scanSheet reads a worksheet's XML as a sequence of tags, without
+// decoding it: the numbers of its rows (their r attributes) must rise
+// strictly (ErrRowOrder), and the cells holding a formula (an f element)
+// but no saved value (no v element) are returned.
+func scanSheet(f *zip.File) (unsavedCells, error) {
+	var u unsavedCells
 	rc, err := f.Open()
 	if err != nil {
-		return fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+		return u, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
 	}
 	defer rc.Close()
-	sc := rowScanner{br: bufio.NewReaderSize(rc, 64<<10)}
-	last := int64(0)
+	sc := tagScanner{br: bufio.NewReaderSize(rc, 64<<10)}
+	var last, row, col int64
+	inCell, formula, value := false, false, false
 	for {
-		n, ok, err := sc.next()
+		tag, err := sc.next()
+		if err == io.EOF {
+			return u, nil
+		}
 		if err != nil {
-			return fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+			return u, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
 		}
-		if !ok {
-			return nil
-		}
-		if n > 0 && n <= last {
-			return fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)
-		}
-		if n > 0 {
-			last = n
+		switch name := string(tag.name); {
+		case name == "row" && !tag.end:
+			n := attrNumber(tag.attrs, "r")
+			if n > 0 && n <= last {
+				return u, fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)
+			}
+			if n > 0 {
+				last, row = n, n
+			} else {
+				row++
+			}
+			col = 0
+		case name == "c" && !tag.end:
+			col++
+			if c, r, ok := cellReference(attrValue(tag.attrs, "r")); ok {
+				col, row = c, r
+			}
+			// A cell outside a row is not read, and not told.
+			inCell, formula, value = !tag.self && row > 0, false, false
+		case name == "f" && !tag.end:
+			formula = inCell
+		case name == "v" && !tag.end:
+			value = inCell
+		case name == "c" && tag.end:
+			if inCell && formula && !value {
+				if u.count == 0 {
+					u.col, u.row = int(col), int(row)
+				}
+				u.count++
+			}
+			inCell = false
 		}
 	}
 }
 
-// rowScanner finds the row elements of worksheet XML without decoding
-// it: each "<row" start tag and its r attribute (0 when absent).
-type rowScanner struct {
-	br *bufio.Reader
+// xmlTag is one tag of XML text: its name without a namespace prefix
+// (valid until the next tag is read), whether it ends an element (</c>),
+// and for the start tags of rows and cells whether it is empty (<c/>) and
+// the text of its attributes.
+type xmlTag struct {
+	name      []byte
+	end, self bool
+	attrs     []byte
 }
 
-// next returns the number of the next row element; ok is false at the end.
-func (s *rowScanner) next() (n int64, ok bool, err error) {
+// maxTagBytes bounds how much of one tag tagScanner keeps: the name and
+// the first attributes, where a sheet's row and cell references are.
+const maxTagBytes = 512
+
+// maxNameBytes bounds the name of a tag that tagScanner tells, with its
+// namespace prefix; longer names are returned empty.
+const maxNameBytes = 32
+
+// tagScanner reads the tags of XML text one after another, skipping the
+// text between them and, but for rows and cells, the tags' attributes.
+type tagScanner struct {
+	br  *bufio.Reader
+	buf []byte
+}
+
+// next returns the next tag; io.EOF at the end. Processing instructions,
+// comments, declarations and names longer than maxNameBytes are returned
+// with an empty name.
+func (s *tagScanner) next() (xmlTag, error) {
 	for {
-		if _, err := s.br.ReadSlice('<'); err == io.EOF {
-			return 0, false, nil
-		} else if err != nil && err != bufio.ErrBufferFull {
-			return 0, false, err
+		_, err := s.br.ReadSlice('<')
+		if err == nil {
+			break
 		}
-		tag, err := s.br.Peek(4)
-		if err == io.EOF {
-			return 0, false, nil
+		if err != bufio.ErrBufferFull {
+			return xmlTag{}, err
 		}
-		if err != nil {
-			return 0, false, err
+	}
+	head, err := s.br.Peek(maxNameBytes)
+	if len(head) == 0 {
+		return xmlTag{}, err
+	}
+	var tag xmlTag
+	if head[0] == '/' {
+		tag.end, head = true, head[1:]
+	}
+	end := nameEnd(head)
+	if end < 0 || (len(head) > 0 && (head[0] == '?' || head[0] == '!')) {
+		return tag, nil
+	}
+	name := head[:end]
+	if i := bytes.IndexByte(name, ':'); i >= 0 {
+		name = name[i+1:]
+	}
+	if tag.end || (string(name) != "row" && string(name) != "c") {
+		tag.name = name
+		return tag, nil
+	}
+	// A row or a cell: its attributes, to the end of the tag.
+	s.buf = s.buf[:0]
+	for {
+		b, err := s.br.ReadSlice('>')
+		if room := maxTagBytes - len(s.buf); room > 0 {
+			s.buf = append(s.buf, b[:min(len(b), room)]...)
 		}
-		if string(tag[:3]) != "row" || (tag[3] != ' ' && tag[3] != '>' && tag[3] != '/' && tag[3] != '\t' && tag[3] != '\n' && tag[3] != '\r') {
+		if err == nil {
+			break
+		}
+		if err != bufio.ErrBufferFull {
+			return xmlTag{}, err
+		}
+	}
+	t := bytes.TrimSuffix(s.buf, []byte(">"))
+	if len(t) > 0 && t[len(t)-1] == '/' {
+		tag.self, t = true, t[:len(t)-1]
+	}
+	start := nameEnd(t)
+	if start < 0 {
+		start = len(t)
+	}
+	tag.name, tag.attrs = t[:start], t[start:]
+	if i := bytes.IndexByte(tag.name, ':'); i >= 0 {
+		tag.name = tag.name[i+1:]
+	}
+	return tag, nil
+}
+
+// nameEnd returns the index of the first byte of b that ends a tag's
+// name (white space, '/' or '>'), -1 when none does.
+func nameEnd(b []byte) int {
+	for i, c := range b {
+		switch c {
+		case ' ', '\t', '\r', '\n', '/', '>':
+			return i
+		}
+	}
+	return -1
+}
+
+// cellReference reads a cell reference such as B14 into its 1-based
+// column and row; ok is false when ref is not one (or beyond 2⁴⁰).
+func cellReference(ref []byte) (col, row int64, ok bool) {
+	i := 0
+	for ; i < len(ref) && col <= 1<<40; i++ {
+		c := ref[i] | 0x20 // lower case
+		if c < 'a' || c > 'z' {
+			break
+		}
+		col = col*26 + int64(c-'a'+1)
+	}
+	if i == 0 || i == len(ref) {
+		return 0, 0, false
+	}
+	for ; i < len(ref); i++ {
+		c := ref[i]
+		if c < '0' || c > '9' || row > 1<<40 {
+			return 0, 0, false
+		}
+		row = row*10 + int64(c-'0')
+	}
+	return col, row, row > 0
+}
+
+// attrValue returns the value of the attribute named name in the
+// attribute text of a tag, nil when it has none.
+func attrValue(attrs []byte, name string) []byte {
+	for i := 0; i+len(name)+2 < len(attrs); i++ {
+		c := attrs[i]
+		if c != ' ' && c != '\t' && c != '\n' && c != '\r' {
 			continue
 		}
-		attrs, err := s.br.ReadSlice('>')
-		if err != nil && err != bufio.ErrBufferFull {
-			return 0, false, err
+		rest := attrs[i+1:]
+		if !bytes.HasPrefix(rest, []byte(name)) || rest[len(name)] != '=' {
+			continue
 		}
-		return rowNumber(attrs), true, nil
+		q := rest[len(name)+1]
+		if q != '"' && q != '\'' {
+			continue
+		}
+		v := rest[len(name)+2:]
+		if j := bytes.IndexByte(v, q); j >= 0 {
+			return v[:j]
+		}
+		return v
 	}
+	return nil
 }
 
-// rowNumber reads the r attribute of a row start tag.
-func rowNumber(tag []byte) int64 {
-	for i := 0; i+3 < len(tag); i++ {
-		c := tag[i]
-		if (c == ' ' || c == '\t' || c == '\n' || c == '\r') && tag[i+1] == 'r' && tag[i+2] == '=' && (tag[i+3] == '"' || tag[i+3] == '\'') {
-			var n int64
-			for j := i + 4; j < len(tag) && tag[j] >= '0' && tag[j] <= '9'; j++ {
-				n = n*10 + int64(tag[j]-'0')
-				if n > 1<<40 {
-					return n
-				}
-			}
-			return n
+// attrNumber reads an attribute of decimal digits (0 when it is absent
+// or does not start with a digit; a value past 2⁴⁰ stops there).
+func attrNumber(attrs []byte, name string) int64 {
+	var n int64
+	for _, c := range attrValue(attrs, name) {
+		if c < '0' || c > '9' {
+			break
+		}
+		n = n*10 + int64(c-'0')
+		if n > 1<<40 {
+			break
 		}
 	}
-	return 0
+	return n
+}
+
+// sheetParts maps the name of each sheet of a workbook to its worksheet
+// part in the archive, as the workbook part (named by the package's
+// relationships, normally xl/workbook.xml) and its own relationships say.
+func sheetParts(zr *zip.Reader) (map[string]string, error) {
+	var rels struct {
+		Rel []struct {
+			ID     string `xml:"Id,attr"`
+			Type   string `xml:"Type,attr"`
+			Target string `xml:"Target,attr"`
+		} `xml:"Relationship"`
+	}
+	part := func(dir, target string) string {
+		if strings.HasPrefix(target, "/") {
+			return strings.TrimPrefix(target, "/")
+		}
+		return path.Join(dir, target)
+	}
+	book := "xl/workbook.xml"
+	if err := readXML(zr, "_rels/.rels", &rels); err == nil {
+		for _, r := range rels.Rel {
+			if strings.HasSuffix(r.Type, "/officeDocument") {
+				book = part("", r.Target)
+			}
+		}
+	}
+	var wb struct {
+		Sheets []struct {
+			Name string `xml:"name,attr"`
+			ID   string `xml:"id,attr"`
+		} `xml:"sheets>sheet"`
+	}
+	if err := readXML(zr, book, &wb); err != nil {
+		return nil, err
+	}
+	rels.Rel = nil
+	if err := readXML(zr, path.Join(path.Dir(book), "_rels", path.Base(book)+".rels"), &rels); err != nil {
+		return nil, err
+	}
+	targets := map[string]string{}
+	for _, r := range rels.Rel {
+		targets[r.ID] = part(path.Dir(book), r.Target)
+	}
+	out := map[string]string{}
+	for _, s := range wb.Sheets {
+		if t, ok := targets[s.ID]; ok {
+			out[s.Name] = t
+		}
+	}
+	return out, nil
+}
+
+// readXML decodes the XML part name of a zip archive into v.
+func readXML(zr *zip.Reader, name string, v any) error {
+	f, err := zr.Open(name)
+	if err != nil {
+		return err
+	}
+	defer f.Close()
+	return xml.NewDecoder(f).Decode(v)
 }

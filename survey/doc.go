@@ -31,8 +31,9 @@
 //     the site (MetaKeys; Table.Site).
 //   - Inputs are bounded (Limits: DefaultMaxBytes, DefaultMaxRows,
 //     DefaultMaxCells, raised by the environment variables EnvMaxBytes,
-//     EnvMaxRows, EnvMaxCells), only regular files are read, and implausible values (MaxCoordinate,
-//     MaxElevation, MinN, MaxN) are refused at their cell.
+//     EnvMaxRows, EnvMaxCells), only regular files are read, and implausible values are refused at
+//     their cell: coordinates beyond MaxCoordinate, elevations, stages and shifts beyond
+//     MaxElevation, discharges above rating.MaxDischarge, n outside MinN to MaxN.
 //   - Readers return plain values from packages subdivide and rating and
 //     never modify the files they read.
 package survey

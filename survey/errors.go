@@ -85,6 +85,15 @@ const MaxReported = 20
 // errorList joins parse errors, one per line, keeping at most MaxReported.
 type errorList []*ParseError
 
+// add appends the errors that are not nil.
+func (l *errorList) add(errs ...*ParseError) {
+	for _, e := range errs {
+		if e != nil {
+			*l = append(*l, e)
+		}
+	}
+}
+
 func (l errorList) err() error {
 	if len(l) == 0 {
 		return nil

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 	"time"
 
@@ -243,18 +242,12 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 // number reads the number in column col, what naming it; false when it
 // is blank, unreadable or beyond ±limit.
 func (rd *gaugingReader) number(rec Record, col int, what string, limit float64) (float64, bool) {
-	v, ok, err := rd.t.Float(rec, col)
-	switch {
-	case err != nil:
-		rd.errs = append(rd.errs, err.(*ParseError))
-		return 0, false
-	case !ok:
-		rd.add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
-	case math.Abs(v) > limit:
-		rd.add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
+	v, err := rd.t.number(rec, col, what, limit)
+	if err != nil {
+		rd.errs = append(rd.errs, err)
 		return v, false
 	}
-	return v, ok
+	return v, true
 }
 
 // uncertainty reads the gauging's uncertainty into g when given and in

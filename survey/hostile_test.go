@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -193,6 +194,55 @@ func TestTextEncodingsAndSeparators(t *testing.T) {
 		tab, err := ParseCSV(strings.NewReader(text), "s.csv")
 		if err != nil || tab.HeaderRow != 2 || len(tab.Records) != 3 || tab.Records[0].Row != 3 {
 			t.Errorf("separator hint %q: %+v, %v; want the header at line 2 and three rows from line 3", text, tab, err)
+		}
+	}
+}
+
+// A limit variable set to a value that is not a whole number above zero is
+// an error naming the variable and the value, from EnvLimits and from every
+// reader before it reads the file; unset or empty, the default holds.
+func TestLimitVariables(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "xs.csv")
+	if err := os.WriteFile(p, []byte("station,elevation\n0,1\n1,0\n2,1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	readers := map[string]func() error{
+		"ReadTable":   func() error { _, err := ReadTable(p, ""); return err },
+		"ReadSection": func() error { _, err := ReadSection(p, "", SectionOptions{}); return err },
+		"ParseCSV":    func() error { _, err := ParseCSV(strings.NewReader("station,elevation\n0,1\n"), "s.csv"); return err },
+		"ParseWorkbook": func() error {
+			_, err := ParseWorkbook(strings.NewReader("PK\x03\x04"), "s.xlsx", "")
+			return err
+		},
+		"ReadStageRecord": func() error {
+			_, err := ReadStageRecord(p, StageRecordOptions{})
+			return err
+		},
+	}
+	for _, name := range []string{EnvMaxBytes, EnvMaxRows, EnvMaxCells} {
+		for _, value := range []string{"abc", "-1", "0", "1e6", "1.5", " 100", "99999999999999999999"} {
+			t.Run(name+"="+value, func(t *testing.T) {
+				t.Setenv(name, value)
+				want := fmt.Sprintf("%s %q: not a whole number above zero", name, value)
+				if _, err := EnvLimits(); !errors.Is(err, ErrLimitValue) || !strings.HasPrefix(err.Error(), want) {
+					t.Errorf("EnvLimits: %v, want %s", err, want)
+				}
+				for r, read := range readers {
+					if err := read(); !errors.Is(err, ErrLimitValue) || !strings.HasPrefix(err.Error(), want) {
+						t.Errorf("%s: %v, want %s", r, err, want)
+					}
+				}
+			})
+		}
+	}
+	for _, c := range []struct {
+		value string
+		rows  int
+	}{{"", DefaultMaxRows}, {"100", 100}, {"+2000000", 2_000_000}} {
+		t.Setenv(EnvMaxRows, c.value)
+		l, err := EnvLimits()
+		if err != nil || l.Rows != c.rows || l.Bytes != DefaultMaxBytes || l.Cells != DefaultMaxCells {
+			t.Errorf("%s=%q: limits %+v, %v; want %d rows", EnvMaxRows, c.value, l, err, c.rows)
 		}
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"regexp"
 	"strconv"
@@ -14,9 +15,9 @@ import (
 )
 
 // Limits bound what is read from one input file, so that a hostile or
-// mistaken file cannot take the machine's memory. The zero value of a
-// field means its default; the defaults can be raised for one run with
-// the environment variables named below.
+// mistaken file cannot take the machine's memory. The defaults can be
+// raised for one run with the environment variables named below (see
+// EnvLimits).
 type Limits struct {
 	// Bytes bounds the size of a file read (default DefaultMaxBytes;
 	// WETLINE_MAX_BYTES).
@@ -59,20 +60,49 @@ var (
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
 )
 
-// limits returns the limits in force: the defaults, raised (or lowered)
-// by the environment variables.
-func limits() Limits {
-	l := Limits{Bytes: DefaultMaxBytes, Rows: DefaultMaxRows, Cells: DefaultMaxCells}
-	if v, err := strconv.ParseInt(os.Getenv(EnvMaxBytes), 10, 64); err == nil && v > 0 {
-		l.Bytes = v
+// ErrLimitValue is the cause of a limit variable (EnvMaxBytes, EnvMaxRows,
+// EnvMaxCells) set to a value that cannot be used.
+var ErrLimitValue = errors.New("not a whole number above zero")
+
+// EnvLimits returns the limits in force: the defaults, raised (or lowered)
+// by the environment variables EnvMaxBytes, EnvMaxRows and EnvMaxCells,
+// read at each call. A variable unset or empty leaves its default; one set
+// to anything but a whole number above zero (decimal digits, as 2000000)
+// is an error naming the variable and the value, wrapping ErrLimitValue
+// (WETLINE_MAX_ROWS "abc": not a whole number above zero). Every reader
+// calls it before it opens a file and fails with its error; a program may
+// call it first, to report the mistake before any file is read.
+func EnvLimits() (Limits, error) {
+	size, err := envLimit(EnvMaxBytes, DefaultMaxBytes)
+	if err != nil {
+		return Limits{}, err
 	}
-	if v, err := strconv.Atoi(os.Getenv(EnvMaxRows)); err == nil && v > 0 {
-		l.Rows = v
+	rows, err := envLimit(EnvMaxRows, DefaultMaxRows)
+	if err != nil {
+		return Limits{}, err
 	}
-	if v, err := strconv.Atoi(os.Getenv(EnvMaxCells)); err == nil && v > 0 {
-		l.Cells = v
+	cells, err := envLimit(EnvMaxCells, DefaultMaxCells)
+	if err != nil {
+		return Limits{}, err
 	}
-	return l
+	return Limits{Bytes: size, Rows: int(rows), Cells: int(cells)}, nil
+}
+
+// envLimit reads one limit variable (see EnvLimits), def when it is unset
+// or empty. The value must fit an int.
+func envLimit(name string, def int64) (int64, error) {
+	s := os.Getenv(name)
+	if s == "" {
+		return def, nil
+	}
+	v, err := strconv.ParseInt(s, 10, strconv.IntSize)
+	switch {
+	case errors.Is(err, strconv.ErrRange) && !strings.HasPrefix(s, "-"):
+		return 0, fmt.Errorf("%s %q: %w (at most %d)", name, s, ErrLimitValue, int64(math.MaxInt))
+	case err != nil || v <= 0:
+		return 0, fmt.Errorf("%s %q: %w", name, s, ErrLimitValue)
+	}
+	return v, nil
 }
 
 // Stdin is the name that reads standard input.
@@ -84,7 +114,10 @@ const Stdin = "-"
 // reader returned gives at most the limit plus one byte, so a standard
 // input too long is seen as such.
 func openInput(path string) (io.ReadCloser, int64, error) {
-	lim := limits()
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, 0, err
+	}
 	if path == Stdin {
 		return io.NopCloser(io.LimitReader(os.Stdin, lim.Bytes+1)), -1, nil
 	}
@@ -110,6 +143,10 @@ func openInput(path string) (io.ReadCloser, int64, error) {
 
 // readInput reads a whole input file (see openInput).
 func readInput(path string) ([]byte, error) {
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
 	r, _, err := openInput(path)
 	if err != nil {
 		return nil, err
@@ -119,7 +156,7 @@ func readInput(path string) ([]byte, error) {
 	if err != nil {
 		return nil, &ParseError{File: path, Err: err}
 	}
-	if lim := limits(); int64(len(data)) > lim.Bytes {
+	if int64(len(data)) > lim.Bytes {
 		return nil, &ParseError{File: path, Err: fmt.Errorf("%w of %d bytes: raise it with %s=BYTES", ErrTooLarge, lim.Bytes, EnvMaxBytes)}
 	}
 	return data, nil

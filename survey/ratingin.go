@@ -86,7 +86,10 @@ const (
 
 // RatingFromTable turns a table with the columns of RatingColumns and
 // ExtraRatingColumns into a rating table. Stage and discharge are
-// required in every row, the stages must increase from row to row
+// required in every row, within the bounds every rating table is read
+// with (a stage within ±MaxElevation, a discharge at most
+// rating.MaxDischarge; ErrImplausible at the cell beyond them), the
+// stages must increase from row to row
 // (ErrRatingStageOrder at the stage cell of a row that does not) and no
 // discharge may be negative (gauged.ErrRatingNegative at its cell, as a
 // rating table is read for the record and compare). A valid_from column
@@ -130,7 +133,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	for _, rec := range t.Records {
 		opt := func(name string) float64 { return cells.optional(rec, name) }
 		r := rating.Row{
-			Stage: cells.needed(rec, cs, "stage"), Discharge: cells.needed(rec, cq, "discharge"),
+			Stage: cells.needed(rec, cs, "stage", MaxElevation), Discharge: cells.needed(rec, cq, "discharge", rating.MaxDischarge),
 			Depth: opt("depth"), Area: opt("area"), WettedPerimeter: opt("wetted_perimeter"),
 			TopWidth: opt("top_width"), HydraulicRadius: opt("hydraulic_radius"),
 			Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
@@ -228,16 +231,13 @@ func (c *rowCells) optional(rec Record, name string) float64 {
 }
 
 // needed is the number in column col, NaN with a gathered error when the
-// cell is blank or bad; what names the value in the message.
-func (c *rowCells) needed(rec Record, col int, what string) float64 {
-	v, ok, err := c.t.Float(rec, col)
-	switch {
-	case err != nil:
-		c.errs = append(c.errs, err.(*ParseError))
-	case !ok:
-		c.errs = append(c.errs, c.t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what)))
-	default:
-		return v
+// cell is blank, bad or beyond ±limit; what names the value in the
+// message.
+func (c *rowCells) needed(rec Record, col int, what string, limit float64) float64 {
+	v, err := c.t.number(rec, col, what, limit)
+	if err != nil {
+		c.errs = append(c.errs, err)
+		return math.NaN()
 	}
-	return math.NaN()
+	return v
 }

@@ -56,6 +56,7 @@ func FuzzParseRatingCSV(f *testing.F) {
 		"stage,discharge\n1,nan\n",
 		"\ufeffstage;discharge\n1;2\n",
 		"# c\nStage (m),Discharge (m3/s)\n1,2,3\n",
+		"stage,discharge\n-2e5,0\n2,1e308\n",
 	} {
 		f.Add(s)
 	}
@@ -70,6 +71,9 @@ func FuzzParseRatingCSV(f *testing.F) {
 			}
 			if r.Discharge < 0 {
 				t.Fatalf("negative discharge accepted: %+v", r)
+			}
+			if math.Abs(r.Stage) > MaxElevation || r.Discharge > rating.MaxDischarge {
+				t.Fatalf("implausible row accepted: %+v", r)
 			}
 			if i > 0 && !(r.Stage > tab.Rows[i-1].Stage) {
 				t.Fatalf("stage %g after %g accepted", r.Stage, tab.Rows[i-1].Stage)

@@ -99,7 +99,8 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // valid_from time (a blank valid_from, or the same instant as the row
 // above, continues the rating above; the times all with a UTC offset or
 // all without, ErrMixedOffsets at the first that differs, each of the
-// years MinYear to MaxYear, ErrYear). Rows
+// years MinYear to MaxYear, ErrYear). Stage and discharge are bounded as
+// in RatingFromTable (ErrImplausible at the cell). Rows
 // must ascend in stage with discharge rising once above zero (see
 // gauged.RatingTable.Validate); periods must ascend in time. Units written
 // in the stage and discharge headers are reported in Units; an unknown
@@ -151,9 +152,10 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 			groups = append(groups, ratingGroup{from: opt.From, fromRec: rec})
 		}
 		g := &groups[len(groups)-1]
-		h, okh := ratingNumber(t, rec, cs, &errs)
-		q, okq := ratingNumber(t, rec, cq, &errs)
-		if okh && okq {
+		h, errh := t.number(rec, cs, "stage", MaxElevation)
+		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
+		errs.add(errh, errq)
+		if errh == nil && errq == nil {
 			g.points = append(g.points, gauged.RatingPoint{Stage: rating.DecimalDifference(h, opt.Datum), Discharge: q})
 			g.recs = append(g.recs, rec)
 			g.extrapolated = append(g.extrapolated, cx >= 0 && yesWord(t.Cell(rec, cx)))
@@ -228,20 +230,6 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 			where(t, g.recs[0].Row), g.points[0].Stage))
 	}
 	return gauged.Period{From: g.from, Rating: rt}, nil
-}
-
-// ratingNumber reads a required number cell of a rating table.
-func ratingNumber(t *Table, rec Record, col int, errs *errorList) (float64, bool) {
-	v, ok, err := t.Float(rec, col)
-	switch {
-	case err != nil:
-		*errs = append(*errs, err.(*ParseError))
-		return 0, false
-	case !ok:
-		*errs = append(*errs, t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, t.Header[col])))
-		return 0, false
-	}
-	return v, true
 }
 
 // yesWord reads a yes/true cell.

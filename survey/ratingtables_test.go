@@ -142,7 +142,7 @@ func TestRatingTableHeaderUnits(t *testing.T) {
 		{"other columns unread", "stage,discharge,lower_95 (furlongs)", false, rating.SI, "", ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			rs, err := ParseRatingTables(strings.NewReader(tc.header+"\n0.5,1,1\n1,3,3\n"), "r.csv", RatingTableOptions{})
+			rs, err := ParseRatingTables(strings.NewReader(tc.header+"\n0.5,1\n1,3\n"), "r.csv", RatingTableOptions{})
 			if err != nil {
 				t.Fatal(err)
 			}

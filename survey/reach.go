@@ -645,6 +645,9 @@ type BoundaryRating struct {
 	Points []reach.StageDischarge
 	// Rows are the 1-based lines or sheet rows of Points.
 	Rows []int
+	// Warnings are unusual but legal facts about where it was read (a
+	// hidden sheet).
+	Warnings []string
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or
@@ -658,11 +661,14 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 	if err != nil {
 		return BoundaryRating{}, err
 	}
-	return BoundaryRatingFromTable(t)
+	br, err := BoundaryRatingFromTable(t)
+	br.Warnings = append(t.Warnings, br.Warnings...)
+	return br, err
 }
 
 // BoundaryRatingFromTable reads the stage and discharge columns of t. Both
-// are required in every row, discharge not negative; of a leading run of
+// are required in every row, bounded as in RatingFromTable (ErrImplausible
+// at the cell), discharge not negative; of a leading run of
 // rows without flow (a rating table starts at the dry bed) only the last
 // is kept; from there on stage and discharge must both increase. Every bad
 // cell is reported, each naming its row and column.
@@ -677,22 +683,11 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 		return out, err
 	}
 	var errs errorList
-	need := func(rec Record, c int, what string) (float64, bool) {
-		v, ok, err := t.Float(rec, c)
-		switch {
-		case err != nil:
-			errs = append(errs, err.(*ParseError))
-		case !ok:
-			errs = append(errs, t.At(rec, c, fmt.Errorf("%w: %s is blank", ErrNotNumber, what)))
-		default:
-			return v, true
-		}
-		return 0, false
-	}
 	for _, rec := range t.Records {
-		h, okh := need(rec, cs, "stage")
-		q, okq := need(rec, cq, "discharge")
-		if !okh || !okq {
+		h, errh := t.number(rec, cs, "stage", MaxElevation)
+		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
+		errs.add(errh, errq)
+		if errh != nil || errq != nil {
 			continue
 		}
 		n := len(out.Points)

@@ -541,6 +541,7 @@ func FuzzReachTableBackwater(f *testing.F) {
 func FuzzBoundaryRatingFromTable(f *testing.F) {
 	f.Add([]byte("stage,discharge\n100,0\n100.5,0\n101,2\n102,9\n"))
 	f.Add([]byte("Stage (m),Discharge (m3/s)\n1,1\n"))
+	f.Add([]byte("stage,discharge\n1,0\n2e5,1e308\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
 		tab, err := ParseCSV(bytes.NewReader(data), "fuzz.csv")
 		if err != nil {
@@ -557,6 +558,11 @@ func FuzzBoundaryRatingFromTable(f *testing.F) {
 			p, q := b.Points[i-1], b.Points[i]
 			if !(q.Stage > p.Stage && q.Discharge > p.Discharge) || p.Discharge < 0 {
 				t.Errorf("points %d, %d: %v then %v", i-1, i, p, q)
+			}
+		}
+		for _, p := range b.Points {
+			if math.Abs(p.Stage) > MaxElevation || p.Discharge > rating.MaxDischarge {
+				t.Errorf("implausible point %v accepted", p)
 			}
 		}
 	})

@@ -91,7 +91,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // MinYear to MaxYear (ErrYear), a time whose offset, or lack of one,
 // differs from the first time's (ErrMixedOffsets), a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
-// the row before). A header naming a column twice is refused
+// the row before), a value after the header's last named column
+// (ErrBeyondHeader). A header naming a column twice is refused
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
@@ -202,6 +203,7 @@ type stageBuilder struct {
 	off                  int64
 	header               []string
 	headerRow            int
+	width                int // columns up to the header's last named one
 	ct, cs, cq           int
 	out                  *StageRecord
 	quality              map[string]uint16
@@ -238,6 +240,10 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	b.header, b.headerRow = h, row
+	b.width = len(h)
+	for b.width > 0 && h[b.width-1] == "" {
+		b.width--
+	}
 	st := &b.out.Stages
 	st.Time = make([]int64, 0, sizeHint)
 	st.Stage = make([]float64, 0, sizeHint)
@@ -254,8 +260,13 @@ func (b *stageBuilder) fail(row, col int, text []byte, err error) {
 	b.errs.add(&ParseError{File: b.file, Sheet: b.sheet, Row: row, Column: col + 1, Name: b.header[col], Text: string(text), Err: err})
 }
 
-// row reads one data row.
+// row reads one data row; a value after the header's last named column
+// is an error (ErrBeyondHeader) at its cell.
 func (b *stageBuilder) row(fields [][]byte, row int) {
+	if c := beyondHeader(fields, b.width); c >= 0 {
+		b.errs.add(beyondHeaderError(b.file, b.sheet, row, c, string(fields[c])))
+		return
+	}
 	cell := func(c int) []byte {
 		if c < 0 || c >= len(fields) {
 			return nil

@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"wetline/rating"
 	"wetline/rating/gauged"
 	"wetline/rating/record"
 )
@@ -41,6 +42,7 @@ func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,stage\n2024-05-01T00:00,1\n2024-05-01T00:15Z,1\n", int8(10))
 	f.Add("time,stage,gauge_height\n2024-05-01T00:00,1,1\n", int8(0))
 	f.Add("time,stage\n2024-05-01T00:00,0.7\xb0\n", int8(0))
+	f.Add("time,stage,,\n2024-05-01T00:00,1,,\n2024-05-01T00:15,1,5\n\"2024-05-01T00:30\",1,,\"x\"\n", int8(0))
 	first := time.Date(MinYear, 1, 1, 0, 0, 0, 0, time.UTC).Unix() - int64(record.MaxUTCOffset/time.Second)
 	last := time.Date(MaxYear, 12, 31, 23, 59, 59, 0, time.UTC).Unix() + int64(record.MaxUTCOffset/time.Second)
 	f.Fuzz(func(t *testing.T, in string, offsetHours int8) {
@@ -144,6 +146,7 @@ func FuzzParseShiftDiagrams(f *testing.F) {
 	f.Add("time,stage,shift,taper,abrupt\n2024-03-01,0.5,0.1,1.5,\n")
 	f.Add("time,stage (ft),shift (ft),taper (m),abrupt\n2024-03-01,0.5,0.1,1.5,\n")
 	f.Add("time,stage [m],shift (m)\n2024-03-01,,0.1\n")
+	f.Add("time,stage,shift,taper\n2024-03-01,1e308,1e300,1e200\n")
 	f.Fuzz(func(t *testing.T, in string) {
 		ds, err := ParseShiftDiagrams(strings.NewReader(in), "f.csv", ShiftTableOptions{})
 		checkPositioned(t, err, "f.csv")
@@ -152,6 +155,16 @@ func FuzzParseShiftDiagrams(f *testing.F) {
 		}
 		if _, err := (gauged.History{Shifts: ds.Diagrams}).Compile(); err != nil {
 			t.Fatalf("diagrams read do not compile: %v", err)
+		}
+		for _, d := range ds.Diagrams {
+			for _, p := range d.Points {
+				if math.Abs(p.Stage) > MaxElevation || math.Abs(p.Shift) > MaxElevation {
+					t.Fatalf("implausible point %+v accepted", p)
+				}
+			}
+			if d.HasTaper && math.Abs(d.Taper) > MaxElevation {
+				t.Fatalf("implausible taper %g accepted", d.Taper)
+			}
 		}
 	})
 }
@@ -167,6 +180,7 @@ func FuzzParseRatingTables(f *testing.F) {
 	f.Add("stage,discharge\n0.5,1\n1,3\n", 0.2, true)
 	f.Add("Stage (ft),discharge [cfs],lower_95 (ft3/s)\n0.5,1,0.9\n1,3,2.8\n", math.NaN(), false)
 	f.Add("stage (ft),discharge (m3/s)\n0.5,1\n", math.NaN(), false)
+	f.Add("stage,discharge\n0.5,1\n2e5,1e308\n", math.NaN(), false)
 	f.Fuzz(func(t *testing.T, in string, e float64, extrapolate bool) {
 		rs, err := ParseRatingTables(strings.NewReader(in), "f.csv", RatingTableOptions{HasZeroFlow: !math.IsNaN(e), ZeroFlow: e, Extrapolate: extrapolate})
 		checkPositioned(t, err, "f.csv")
@@ -179,6 +193,13 @@ func FuzzParseRatingTables(f *testing.F) {
 		r, err := gauged.History{Periods: rs.Periods}.Compile()
 		if err != nil {
 			t.Fatalf("ratings read do not compile: %v", err)
+		}
+		for _, p := range rs.Periods {
+			for _, pt := range p.Rating.Points {
+				if math.Abs(pt.Stage) > MaxElevation || pt.Discharge > rating.MaxDischarge {
+					t.Fatalf("implausible row %+v accepted", pt)
+				}
+			}
 		}
 		for p := range rs.Periods {
 			rt := r.Rating(p)

@@ -204,16 +204,9 @@ func (r *sectionReader) add(rec Record, col int, err error) {
 
 // number reads a required number cell within ±limit.
 func (r *sectionReader) number(rec Record, col int, what string, limit float64) (float64, bool) {
-	v, ok, err := r.t.Float(rec, col)
-	switch {
-	case err != nil:
-		r.errs = append(r.errs, err.(*ParseError))
-		return 0, false
-	case !ok:
-		r.add(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
-		return 0, false
-	case math.Abs(v) > limit:
-		r.add(rec, col, fmt.Errorf("%s %g %w (beyond ±%g)", what, v, ErrImplausible, limit))
+	v, err := r.t.number(rec, col, what, limit)
+	if err != nil {
+		r.errs = append(r.errs, err)
 		return 0, false
 	}
 	return v, true

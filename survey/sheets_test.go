@@ -1,10 +1,8 @@
 package survey
 
 import (
-	"archive/zip"
 	"bytes"
 	"errors"
-	"io"
 	"os"
 	"path/filepath"
 	"strings"
@@ -58,27 +56,14 @@ func TestSurveySheetsBadSheetAlone(t *testing.T) {
 	if err := f.Write(&buf); err != nil {
 		t.Fatal(err)
 	}
-	zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out bytes.Buffer
-	zw := zip.NewWriter(&out)
-	for _, zf := range zr.File {
-		w, _ := zw.Create(zf.Name)
-		rc, _ := zf.Open()
-		data, _ := io.ReadAll(rc)
-		rc.Close()
-		if zf.Name == "xl/worksheets/sheet2.xml" {
-			data = []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
+	spoiled := rewriteZip(t, buf.Bytes(), func(name string, data []byte) []byte {
+		if name == "xl/worksheets/sheet2.xml" {
+			return []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
 		}
-		w.Write(data)
-	}
-	if err := zw.Close(); err != nil {
-		t.Fatal(err)
-	}
+		return data
+	})
 	path := filepath.Join(t.TempDir(), "spoiled.xlsx")
-	if err := os.WriteFile(path, out.Bytes(), 0o644); err != nil {
+	if err := os.WriteFile(path, spoiled, 0o644); err != nil {
 		t.Fatal(err)
 	}
 	got, err := SurveySheets(path)
@@ -198,5 +183,48 @@ func TestHiddenSheetStageRecord(t *testing.T) {
 		if warned := len(rec.Warnings) > 0 && strings.Contains(strings.Join(rec.Warnings, " "), "is hidden"); warned != c.warned {
 			t.Errorf("sheet %q: warnings %q, want hidden warning %v", c.sheet, rec.Warnings, c.warned)
 		}
+	}
+}
+
+// A boundary rating and shift diagrams read from a hidden sheet carry the
+// hidden-sheet warning, as sections and gaugings do: the boundary rating
+// from a hidden sheet named rating (read when no sheet is named), the
+// shifts from a hidden sheet named. A visible sheet gives no warning.
+func TestHiddenSheetRatingAndShifts(t *testing.T) {
+	t.Parallel()
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "current")
+	f.NewSheet("rating")
+	f.NewSheet("shifts")
+	for _, s := range []string{"current", "rating"} {
+		f.SetSheetRow(s, "A1", &[]any{"stage", "discharge"})
+		f.SetSheetRow(s, "A2", &[]any{1.0, 0})
+		f.SetSheetRow(s, "A3", &[]any{2.0, 5})
+	}
+	f.SetSheetRow("shifts", "A1", &[]any{"time", "stage", "shift"})
+	f.SetSheetRow("shifts", "A2", &[]any{"2024-03-01T00:00:00Z", 1.0, 0.1})
+	f.SetActiveSheet(0)
+	for _, s := range []string{"rating", "shifts"} {
+		if err := f.SetSheetVisible(s, false); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	hidden := func(ws []string, sheet string) bool {
+		return len(ws) == 1 && ws[0] == HiddenSheetWarning(path, sheet)
+	}
+	br, err := ReadBoundaryRating(path, "")
+	if err != nil || br.Sheet != "rating" || !hidden(br.Warnings, "rating") {
+		t.Errorf("boundary rating from sheet %q: warnings %q, %v; want the hidden-sheet warning", br.Sheet, br.Warnings, err)
+	}
+	if br, err := ReadBoundaryRating(path, "current"); err != nil || len(br.Warnings) != 0 {
+		t.Errorf("boundary rating from a visible sheet: warnings %q, %v", br.Warnings, err)
+	}
+	ds, err := ReadShiftDiagrams(path, ShiftTableOptions{Sheet: "shifts"})
+	if err != nil || !hidden(ds.Warnings, "shifts") {
+		t.Errorf("shift diagrams: warnings %q, %v; want the hidden-sheet warning", ds.Warnings, err)
 	}
 }

@@ -48,6 +48,9 @@ type ShiftDiagrams struct {
 	// Units is what the stage, shift and taper headers say of the unit
 	// system ("shift (ft)"); nothing is converted.
 	Units UnitNote
+	// Warnings are unusual but legal facts about where they were read (a
+	// hidden sheet).
+	Warnings []string
 }
 
 // ErrAbruptWord is the cause of an abrupt cell that is not a yes or a no.
@@ -60,7 +63,9 @@ func ReadShiftDiagrams(path string, opt ShiftTableOptions) (ShiftDiagrams, error
 	if err != nil {
 		return ShiftDiagrams{}, err
 	}
-	return ShiftDiagramsFromTable(t, opt)
+	ds, err := ShiftDiagramsFromTable(t, opt)
+	ds.Warnings = append(t.Warnings, ds.Warnings...)
+	return ds, err
 }
 
 // ParseShiftDiagrams reads shift diagrams from CSV text; name is used in
@@ -77,7 +82,9 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // shift, optional taper (the gauge height at which the diagram's shift
 // reaches zero) and abrupt (yes: the diagram takes effect at its time
 // instead of being prorated from the one before). A diagram of one row may
-// leave its stage blank: a shift constant in stage. Diagrams are gathered
+// leave its stage blank: a shift constant in stage. Stages, taper stages
+// and shifts are bounded by ±MaxElevation, as stages are wherever they are
+// read (ErrImplausible at the cell). Diagrams are gathered
 // and checked by gauged.DiagramsFromRows. Every bad cell is reported with
 // its position (a year outside MinYear to MaxYear is ErrYear, a time
 // whose offset, or lack of one, differs from the first time's
@@ -160,23 +167,23 @@ func shiftRow(t *Table, rec Record, cols map[string]int, off int64, form *offset
 		}
 		r.Time = time.Unix(sec, 0).UTC()
 	}
-	number := func(col int, need bool) (float64, bool) {
-		v, has, err := t.Float(rec, col)
+	number := func(col int, what string, need bool) (float64, bool) {
+		v, has, err := t.bounded(rec, col, what, MaxElevation)
 		switch {
 		case err != nil:
-			*errs = append(*errs, err.(*ParseError))
+			*errs = append(*errs, err)
 			ok = false
 		case !has && need:
 			bad(col, fmt.Errorf("%w: %s is blank", ErrNotNumber, t.Header[col]))
 		}
-		return v, has && err == nil
+		return v, has
 	}
-	r.Shift, _ = number(cols[ColShift], true)
-	if v, has := number(cols[ColShiftStage], false); has {
+	r.Shift, _ = number(cols[ColShift], ColShift, true)
+	if v, has := number(cols[ColShiftStage], ColShiftStage, false); has {
 		r.Stage = v
 	}
 	if c := cols[ColShiftTaper]; c >= 0 {
-		r.Taper, r.HasTaper = number(c, false)
+		r.Taper, r.HasTaper = number(c, ColShiftTaper, false)
 	}
 	if c := cols[ColShiftAbrupt]; c >= 0 {
 		switch strings.ToLower(t.Cell(rec, c)) {

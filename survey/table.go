@@ -81,7 +81,7 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 			return nil, err
 		}
 		defer f.Close()
-		return sheetTable(f, path, preferSheet(f, sheet, prefer))
+		return sheetTable(f, path, preferSheet(f.File, sheet, prefer))
 	}
 	data, err := readInput(path)
 	if err != nil {
@@ -93,7 +93,7 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 			return nil, err
 		}
 		defer f.Close()
-		return sheetTable(f, path, preferSheet(f, sheet, prefer))
+		return sheetTable(f, path, preferSheet(f.File, sheet, prefer))
 	}
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
@@ -122,7 +122,7 @@ var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWo
 // workbook file opens it here, so the file is always a regular file
 // within the limits and its zip directory and sheets are checked first
 // (CheckWorkbookZip).
-func openWorkbook(path string) (*excelize.File, error) {
+func openWorkbook(path string) (*inputBook, error) {
 	data, err := readInput(path)
 	if err != nil {
 		return nil, err
@@ -130,17 +130,46 @@ func openWorkbook(path string) (*excelize.File, error) {
 	return openWorkbookBytes(data, path)
 }
 
+// inputBook is a workbook opened to be read, with what the check of its
+// zip archive found of its sheets.
+type inputBook struct {
+	*excelize.File
+	// unsaved holds, by sheet name, the cells with a formula and no saved
+	// value.
+	unsaved map[string]unsavedCells
+}
+
 // openWorkbookBytes opens a workbook held in memory; name is used in
 // messages.
-func openWorkbookBytes(data []byte, name string) (*excelize.File, error) {
-	if err := CheckWorkbookZip(bytes.NewReader(data), int64(len(data))); err != nil {
+func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
+	unsaved, err := checkWorkbookZip(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
 	f, err := excelize.OpenReader(bytes.NewReader(data), workbookOptions)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	return f, nil
+	return &inputBook{File: f, unsaved: unsaved}, nil
+}
+
+// ErrFormulaNoValue is the cause of a formula cell whose value was never
+// saved (a program that does not compute formulas wrote the workbook): it
+// would read as blank.
+var ErrFormulaNoValue = errors.New("a formula with no saved value: open and save the workbook in a spreadsheet program")
+
+// unsavedError is the ParseError at the first cell of a sheet holding a
+// formula with no saved value, nil when the sheet has none.
+func (f *inputBook) unsavedError(path, sheet string) error {
+	u, ok := f.unsaved[sheet]
+	if !ok {
+		return nil
+	}
+	err := ErrFormulaNoValue
+	if u.count > 1 {
+		err = fmt.Errorf("%w (%d such cells in the sheet)", ErrFormulaNoValue, u.count)
+	}
+	return &ParseError{File: path, Sheet: sheet, Row: u.row, Column: u.col, Err: err}
 }
 
 // ErrDuplicateColumn is the cause of a header naming a column twice.
@@ -153,8 +182,12 @@ type tableBuilder struct {
 	cells int
 }
 
-func newTableBuilder(file, sheet string) *tableBuilder {
-	return &tableBuilder{t: &Table{File: file, Sheet: sheet}, lim: limits()}
+func newTableBuilder(file, sheet string) (*tableBuilder, error) {
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
+	return &tableBuilder{t: &Table{File: file, Sheet: sheet}, lim: lim}, nil
 }
 
 // header sets the header row: trailing blank names are dropped, and a
@@ -188,9 +221,36 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 	return nil
 }
 
-// row adds a data row, keeping only the cells under the header.
+// ErrBeyondHeader is the cause of a value in a column after the header's
+// last named column (often an unquoted decimal comma that shifts a row).
+var ErrBeyondHeader = errors.New("a value beyond the header's last column")
+
+// beyondHeader returns the 0-based column of the first cell of rec at or
+// after width that is not blank, or -1.
+func beyondHeader[S ~string | ~[]byte](rec []S, width int) int {
+	for i := width; i < len(rec); i++ {
+		if len(strings.TrimSpace(string(rec[i]))) > 0 {
+			return i
+		}
+	}
+	return -1
+}
+
+// beyondHeaderError is the ParseError of a value text at 0-based column
+// col of a row, after the header's last named column.
+func beyondHeaderError(file, sheet string, row, col int, text string) *ParseError {
+	return &ParseError{File: file, Sheet: sheet, Row: row, Column: col + 1, Text: text,
+		Err: fmt.Errorf("%w (%q): name its column in the header, or quote a value that holds a comma", ErrBeyondHeader, echo(strings.TrimSpace(text)))}
+}
+
+// row adds a data row, keeping only the cells under the header; a value
+// after the header's last named column is an error (ErrBeyondHeader) at
+// its cell, blank cells there being dropped.
 func (b *tableBuilder) row(rec []string, row int) error {
 	if len(rec) > len(b.t.Header) {
+		if c := beyondHeader(rec, len(b.t.Header)); c >= 0 {
+			return beyondHeaderError(b.t.File, b.t.Sheet, row, c, rec[c])
+		}
 		rec = rec[:len(b.t.Header)]
 	}
 	cells := trimAll(rec)
@@ -218,9 +278,15 @@ func (b *tableBuilder) row(rec []string, row int) error {
 // of another separator refused). Lines starting with '#' are
 // comments ("# key: value" lines above the header are kept in Meta), a
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
-// the cells under the header. A table beyond the limits (see Limits) is an
+// the cells under the header: blank cells after the header's last named
+// column are dropped, a value there is an error at its cell
+// (ErrBeyondHeader). A table beyond the limits (see Limits) is an
 // error that says the limit.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
+	b, err := newTableBuilder(name, "")
+	if err != nil {
+		return nil, err
+	}
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
@@ -232,7 +298,6 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	if data, err = dropSeparatorHint(data, name); err != nil {
 		return nil, err
 	}
-	b := newTableBuilder(name, "")
 	b.t.Meta = csvMeta(data)
 	cr := csv.NewReader(bytes.NewReader(data))
 	cr.Comment = '#'
@@ -295,9 +360,19 @@ func HiddenSheetWarning(path, sheet string) string {
 // sheet itself when named (it must exist; a hidden one is read, with a
 // warning), or else the first visible sheet, a hidden sheet before it
 // being passed over (it may hold an old survey). Every reader of a
-// workbook sheet chooses it here. Errors: no such sheet, no sheets, or
-// ErrNoVisibleSheet.
-func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error) {
+// workbook sheet chooses it here. Errors: no such sheet, no sheets,
+// ErrNoVisibleSheet, or ErrFormulaNoValue at the first cell of the sheet
+// chosen that holds a formula with no saved value.
+func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
+	sheet, warnings, err := pickSheet(f.File, path, sheet)
+	if err == nil {
+		err = f.unsavedError(path, sheet)
+	}
+	return sheet, warnings, err
+}
+
+// pickSheet is chooseSheet without the check of formulas.
+func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 	sheets := f.GetSheetList()
 	if sheet != "" {
 		if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
@@ -321,15 +396,19 @@ func chooseSheet(f *excelize.File, path, sheet string) (string, []string, error)
 
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
 // the first visible sheet, see chooseSheet). Cells are read raw: numbers
-// as written, dates as serials. Two-cell rows above the header whose
+// as written, dates as serials. A value after the header's last named
+// column is an error at its cell (ErrBeyondHeader), as in ParseCSV. Two-cell rows above the header whose
 // first cell is one of MetaKeys are kept in Meta.
-func sheetTable(f *excelize.File, path, sheet string) (*Table, error) {
+func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	sheet, warnings, err := chooseSheet(f, path, sheet)
 	if err != nil {
 		return nil, err
 	}
-	b := newTableBuilder(path, sheet)
+	b, err := newTableBuilder(path, sheet)
+	if err != nil {
+		return nil, err
+	}
 	b.t.Sheets = sheets
 	b.t.Warnings = warnings
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
@@ -480,6 +559,36 @@ func (t *Table) Float(rec Record, col int) (v float64, ok bool, err error) {
 	return v, true, nil
 }
 
+// bounded is Float for a value with a plausible bound: a number beyond
+// ±limit is not read (ok false) and is a *ParseError at its cell wrapping
+// ErrImplausible, what naming the value ("stage 1e+06 is not a plausible
+// value (beyond ±100000)"). A blank cell returns ok false and no error.
+func (t *Table) bounded(rec Record, col int, what string, limit float64) (v float64, ok bool, err *ParseError) {
+	s := t.Cell(rec, col)
+	if s == "" {
+		return 0, false, nil
+	}
+	v, perr := ParseNumber(s)
+	switch {
+	case perr != nil:
+		return 0, false, t.At(rec, col, perr)
+	case math.Abs(v) > limit:
+		return v, false, t.At(rec, col, implausible(what, v, limit))
+	}
+	return v, true, nil
+}
+
+// number reads a number cell that must be given, within ±limit (see
+// bounded); a blank cell is a *ParseError at the cell wrapping
+// ErrNotNumber ("stage is blank").
+func (t *Table) number(rec Record, col int, what string, limit float64) (float64, *ParseError) {
+	v, ok, err := t.bounded(rec, col, what, limit)
+	if err == nil && !ok {
+		err = t.At(rec, col, fmt.Errorf("%w: %s is blank", ErrNotNumber, what))
+	}
+	return v, err
+}
+
 // ParseNumber reads a finite decimal number written with a decimal point.
 func ParseNumber(s string) (float64, error) {
 	s = strings.TrimSpace(s)
@@ -592,8 +701,8 @@ func SurveySheets(path string) ([]SheetSurvey, error) {
 	defer f.Close()
 	var out []SheetSurvey
 	for _, sheet := range f.GetSheetList() {
-		ok, err := hasSurveyHeader(f, sheet)
-		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f, sheet)}
+		ok, err := hasSurveyHeader(f.File, sheet)
+		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f.File, sheet)}
 		if err != nil {
 			s.Err = &ParseError{File: path, Sheet: sheet, Err: err}
 		}

@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -75,5 +76,40 @@ func TestReadSectionWorkbookErrors(t *testing.T) {
 	}
 	if _, err := ReadSection(path, "XS-9", SectionOptions{}); err == nil || !strings.Contains(err.Error(), "no such sheet (sheets: XS-2)") {
 		t.Errorf("missing sheet: %v", err)
+	}
+}
+
+// A file named .xlsx that is not a zip archive is said to be no workbook,
+// and one holding text to be perhaps a CSV file renamed; a zip archive
+// that is no workbook is still refused as a damaged zip.
+func TestWorkbookNotZip(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for _, c := range []struct {
+		name string
+		data []byte
+		is   error
+		says string
+	}{
+		{"renamed.xlsx", []byte("station,elevation\n0,1\n1,0\n"), ErrNotWorkbook, "renamed.xlsx: not a workbook (an .xlsx file is a zip archive); it holds text: it may be a CSV file renamed .xlsx"},
+		{"latin1.xlsx", []byte("station,elevation,note\n0,1,caf\xe9\n"), ErrNotWorkbook, "it may be a CSV file renamed"},
+		{"binary.xlsx", []byte("\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1\x00\x00"), ErrNotWorkbook, "binary.xlsx: not a workbook (an .xlsx file is a zip archive)"},
+		{"empty.xlsx", nil, ErrNotWorkbook, "empty.xlsx: not a workbook"},
+		{"cut.xlsx", []byte("PK\x03\x04\x14\x00"), ErrWorkbookZip, "damaged or forged zip"},
+	} {
+		p := filepath.Join(dir, c.name)
+		if err := os.WriteFile(p, c.data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadTable(p, "")
+		if !errors.Is(err, c.is) || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("%s: %v, want %v saying %q", c.name, err, c.is, c.says)
+		}
+		if c.is == ErrNotWorkbook && (errors.Is(err, ErrWorkbookZip) || strings.Contains(err.Error(), "forged")) {
+			t.Errorf("%s: %v, called a damaged zip", c.name, err)
+		}
+		if strings.HasPrefix(c.name, "binary") && strings.Contains(err.Error(), "CSV") {
+			t.Errorf("%s: %v, said to be text", c.name, err)
+		}
 	}
 }

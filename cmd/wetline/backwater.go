@@ -299,6 +299,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		return rep, usagef("backwater: --at %q: %v (the sections are %s)", at, reach.ErrRatingSection, strings.Join(ids, ", "))
 	}
 	inputs := rt.Inputs()
+	var warnings []string // the boundary rating's
 	if b.Kind == reach.StageRating {
 		br, err := survey.ReadBoundaryRating(bfile, "")
 		if err != nil {
@@ -306,6 +307,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		}
 		b.Rating = br.Points
 		inputs = append(inputs, bfile)
+		warnings = br.Warnings
 	}
 	secs, err := rt.ReachSections(opt.Backwater.Units)
 	if err != nil {
@@ -324,6 +326,6 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	rep.Name = survey.Position(path, sheet)
 	rep.BoundarySource = bfile
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: rt.Site}
-	rep.Warnings = append(append([]string(nil), rt.Warnings...), rep.Warnings...)
+	rep.Warnings = append(append(append([]string(nil), rt.Warnings...), warnings...), rep.Warnings...)
 	return rep, nil
 }

@@ -55,7 +55,8 @@
 //
 // Exit status: 0 on success (and help); 1 when an input or a file cannot
 // be used, with one line per problem naming file, row and column, and
-// nothing written; 2 for a mistake on the command line; 128+N when
+// nothing written; 2 for a mistake on the command line, or a
+// WETLINE_MAX_* variable that is not a whole number above zero; 128+N when
 // interrupted by signal N, leaving no partial file.
 //
 // Caution: computed ratings and flood estimates are estimates to be

@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"wetline/rating"
+	"wetline/survey"
 	"wetline/survey/output"
 )
 
@@ -85,6 +86,14 @@ func (e usageError) Unwrap() error { return e.err }
 
 func usagef(format string, a ...any) error { return usageError{err: fmt.Errorf(format, a...)} }
 
+// envError marks a mistake in the environment the program runs in (a
+// WETLINE_MAX_* variable that cannot be used): exit status 2, as for a
+// mistake on the command line, without a pointer to a command's help.
+type envError struct{ err error }
+
+func (e envError) Error() string { return e.err.Error() }
+func (e envError) Unwrap() error { return e.err }
+
 // errHelp ends a run after help was printed (exit status 0).
 var errHelp = errors.New("help shown")
 
@@ -139,14 +148,18 @@ func privateTemp() (string, error) {
 }
 
 // exitStatus prints err and maps it to the exit status: 0 success (and
-// help), 2 usage errors, 1 everything else.
+// help), 2 usage and environment errors, 1 everything else.
 func exitStatus(err error, stderr io.Writer) int {
 	if err == nil || errors.Is(err, errHelp) {
 		return 0
 	}
 	var ue usageError
+	var ee envError
 	for _, line := range strings.Split(err.Error(), "\n") {
 		fmt.Fprintln(stderr, "wetline: "+line)
+	}
+	if errors.As(err, &ee) {
+		return 2
 	}
 	if errors.As(err, &ue) {
 		if ue.cmd != "" {
@@ -187,6 +200,12 @@ func run(ctx context.Context, e *env, args []string) error {
 	if !ok {
 		return usagef("unknown command %q", name)
 	}
+	// The limits of the inputs are read from the environment by every
+	// reader; a variable that cannot be used is told before anything is
+	// read or written.
+	if _, err := survey.EnvLimits(); err != nil {
+		return envError{err}
+	}
 	err := c.run(ctx, e, args[1:])
 	if err != nil {
 		e.files.Discard() // a failed run leaves no output
@@ -217,7 +236,8 @@ func printUsage(w io.Writer, cmds map[string]command) error {
 	b.WriteString("\nRun 'wetline COMMAND --help' for a command's flags. An input file named - is\n")
 	b.WriteString("standard input; -o - writes to standard output.\n")
 	b.WriteString("\nExit status: 0 success, 1 input data or a file could not be used (nothing is\n")
-	b.WriteString("written), 2 a mistake on the command line, 128+N interrupted by signal N.\n")
+	b.WriteString("written), 2 a mistake on the command line or in a WETLINE_MAX_* variable, 128+N\n")
+	b.WriteString("interrupted by signal N.\n")
 	b.WriteString("\nCaution: " + rating.Caution + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err

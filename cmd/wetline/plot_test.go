@@ -116,6 +116,10 @@ func TestPlotErrors(t *testing.T) {
 	if err := os.WriteFile(neg, []byte("stage,discharge\n1,0\n2,-5\n3,9\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	huge := filepath.Join(dir, "huge.csv")
+	if err := os.WriteFile(huge, []byte("stage,discharge\n1,0\n2,5\n3,1e308\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		name   string
 		args   []string
@@ -130,6 +134,7 @@ func TestPlotErrors(t *testing.T) {
 		{"stage repeated", []string{"plot", same}, false, `same.csv:4:2: stage "2"`},
 		{"several periods", []string{"plot", periods}, false, `periods.csv: holds 2 rating periods (a valid_from column): one rating per file is read`},
 		{"negative discharge", []string{"plot", neg}, false, `neg.csv:3:2: discharge "-5": discharge must not be negative`},
+		{"implausible discharge", []string{"plot", huge}, false, `huge.csv:4:2: discharge "1e308": discharge 1e+308 is not a plausible value (beyond ±1e+08)`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			out := filepath.Join(dir, "out-"+strings.ReplaceAll(tc.name, " ", "-"))

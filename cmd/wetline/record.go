@@ -202,7 +202,7 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 			return h, nil, nil, err
 		}
 		h.Shifts = ds.Diagrams
-		inputs = append(inputs, hf.shifts)
+		inputs, warnings = append(inputs, hf.shifts), append(warnings, ds.Warnings...)
 	} else if err := fs.needs("--shifts FILE", false, "shifts-sheet"); err != nil {
 		return h, nil, nil, err
 	}

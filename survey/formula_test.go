@@ -1,0 +1,177 @@
+package survey
+
+import (
+	"archive/zip"
+	"bytes"
+	"errors"
+	"io"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// formulaBook writes a workbook whose sheet "xs" holds a survey with a
+// formula in B3 (=A3*2, written without a saved value, as a program that
+// does not compute formulas writes it), sheet "stages" a stage record with
+// a formula in B2, and sheet "clean" a survey without formulas. With saved
+// true the formulas' values are written too (B3 = 2, B2 = 1.5), as a
+// spreadsheet program saves them.
+func formulaBook(t *testing.T, saved bool) string {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	f.SetSheetName("Sheet1", "xs")
+	f.NewSheet("stages")
+	f.NewSheet("clean")
+	for _, s := range []string{"xs", "clean"} {
+		f.SetSheetRow(s, "A1", &[]any{"station", "elevation"})
+		f.SetSheetRow(s, "A2", &[]any{0, 3})
+		f.SetSheetRow(s, "A3", &[]any{1})
+		f.SetSheetRow(s, "A4", &[]any{2, 3})
+	}
+	f.SetCellValue("clean", "B3", 0)
+	f.SetSheetRow("stages", "A1", &[]any{"time", "stage"})
+	f.SetSheetRow("stages", "A2", &[]any{"2024-01-01T00:00:00Z"})
+	f.SetSheetRow("stages", "A3", &[]any{"2024-01-01T01:00:00Z", 1.6})
+	if err := f.SetCellFormula("xs", "B3", "A3*2"); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.SetCellFormula("stages", "B2", "1.5"); err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	data := buf.Bytes()
+	if saved {
+		data = rewriteZip(t, data, func(name string, b []byte) []byte {
+			b = bytes.Replace(b, []byte("<f>A3*2</f>"), []byte("<f>A3*2</f><v>2</v>"), 1)
+			return bytes.Replace(b, []byte("<f>1.5</f>"), []byte("<f>1.5</f><v>1.5</v>"), 1)
+		})
+	}
+	path := filepath.Join(t.TempDir(), "field.xlsx")
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// rewriteZip returns the zip archive data with every entry passed through
+// edit.
+func rewriteZip(t *testing.T, data []byte, edit func(name string, b []byte) []byte) []byte {
+	t.Helper()
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	zw := zip.NewWriter(&out)
+	for _, zf := range zr.File {
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		w, err := zw.Create(zf.Name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write(edit(zf.Name, b))
+	}
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return out.Bytes()
+}
+
+// A formula cell with no saved value is an error at the cell in every
+// reader of a sheet (it would read as blank); the other sheets of the
+// workbook still read, and so does the formula once its value is saved.
+func TestFormulaWithoutSavedValue(t *testing.T) {
+	t.Parallel()
+	unsaved, saved := formulaBook(t, false), formulaBook(t, true)
+	for _, tc := range []struct {
+		name string
+		read func(path string) error
+		at   string // where the unsaved formula is, "" when none is read
+	}{
+		{"table", func(p string) error { _, err := ReadTable(p, "xs"); return err }, "field.xlsx['xs']!B3"},
+		{"first sheet", func(p string) error { _, err := ReadTable(p, ""); return err }, "field.xlsx['xs']!B3"},
+		{"section", func(p string) error { _, err := ReadSection(p, "xs", SectionOptions{}); return err }, "field.xlsx['xs']!B3"},
+		{"stage record", func(p string) error { _, err := ReadStageRecord(p, StageRecordOptions{Sheet: "stages"}); return err }, "field.xlsx['stages']!B2"},
+		{"another sheet", func(p string) error { _, err := ReadSection(p, "clean", SectionOptions{}); return err }, ""},
+		{"from bytes", func(p string) error {
+			f, err := os.Open(p)
+			if err != nil {
+				return err
+			}
+			defer f.Close()
+			_, err = ParseWorkbook(f, "field.xlsx", "xs")
+			return err
+		}, "field.xlsx['xs']!B3"},
+	} {
+		err := tc.read(unsaved)
+		switch {
+		case tc.at == "" && err != nil:
+			t.Errorf("%s: %v", tc.name, err)
+		case tc.at != "" && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), tc.at+": a formula with no saved value: open and save the workbook in a spreadsheet program")):
+			t.Errorf("%s: %v, want ErrFormulaNoValue at %s", tc.name, err, tc.at)
+		}
+		if err := tc.read(saved); err != nil {
+			t.Errorf("%s, values saved: %v", tc.name, err)
+		}
+	}
+	sv, err := ReadSection(saved, "xs", SectionOptions{})
+	if err != nil || sv.Section.Points[1].Elevation != 2 {
+		t.Errorf("saved formula read as %+v, %v; want the elevation 2", sv.Section.Points, err)
+	}
+}
+
+// FuzzScanSheet feeds worksheet XML to the scan that checks row order and
+// finds formulas with no saved value: no panic, errors are ErrRowOrder or
+// ErrWorkbookZip, and a cell found lies on the sheet.
+func FuzzScanSheet(f *testing.F) {
+	for _, s := range []string{
+		`<worksheet><sheetData><row r="1"><c r="A1" t="s"><v>0</v></c><c r="B1"><f>A1*2</f></c></row></sheetData></worksheet>`,
+		`<x:worksheet xmlns:x="m"><x:sheetData><x:row><x:c><x:f t="shared" si="0"/></x:c><x:c/></x:row><x:row r="3"><x:c r="C3"><x:f>1</x:f><x:v></x:v></x:c></x:row></x:sheetData></x:worksheet>`,
+		`<row r="2"></row><row r="2"></row>`,
+		`<c r="XFD1048576"><f>1</f></c><c r='A0'><f/></c><!-- <c><f>1</f></c> --><?xml version="1.0"?>`,
+		`<c r="A1" ` + strings.Repeat("s=\"1\" ", 200) + `><f>1</f></c>`,
+	} {
+		f.Add([]byte(s))
+	}
+	f.Fuzz(func(t *testing.T, sheet []byte) {
+		var buf bytes.Buffer
+		zw := zip.NewWriter(&buf)
+		w, err := zw.CreateHeader(&zip.FileHeader{Name: "xl/worksheets/sheet1.xml", Method: zip.Store})
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write(sheet)
+		if err := zw.Close(); err != nil {
+			t.Fatal(err)
+		}
+		zr, err := zip.NewReader(bytes.NewReader(buf.Bytes()), int64(buf.Len()))
+		if err != nil {
+			t.Fatal(err)
+		}
+		u, err := scanSheet(zr.File[0])
+		if err != nil {
+			if !errors.Is(err, ErrRowOrder) && !errors.Is(err, ErrWorkbookZip) {
+				t.Fatalf("error %v is neither ErrRowOrder nor ErrWorkbookZip", err)
+			}
+			return
+		}
+		if u.count < 0 || (u.count > 0 && (u.col < 1 || u.row < 1)) {
+			t.Fatalf("unsaved cells %+v", u)
+		}
+	})
+}
