@@ -18,9 +18,10 @@
 //     file are reported together (at most MaxReported).
 //   - Numbers are written with a decimal point; stations increase left to
 //     right looking downstream.
-//   - Times are ISO 8601 (or workbook date cells) of the years MinYear to
-//     MaxYear, in one file all with a UTC offset or all without
-//     (ErrYear, ErrMixedOffsets).
+//   - Times are ISO 8601 in the forms of ParseISOTime, the same for every
+//     reader and for the command line's times (or workbook date cells),
+//     of the years MinYear to MaxYear, in one file all with a UTC offset
+//     or all without (ErrYear, ErrMixedOffsets).
 //   - A column is named once, under one of its names: a header with both
 //     stage and gauge_height is refused (ErrAliasColumns).
 //   - A unit written in a header is data: the headers of one table must

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -90,7 +89,8 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // and is its reason), into gaugings. Stage and discharge are read in the
 // units the headers say (Gaugings.Units). Every bad cell is reported, each
 // a *ParseError naming its row and column, joined: a blank or unreadable
-// time (ErrBadTime), stage or discharge (ErrNotNumber, ErrImplausible
+// time (ErrBlankTime; ErrISOTime, ErrSubSecond or ErrSerialInCSV, see
+// ParseTime), stage or discharge (ErrNotNumber, ErrImplausible
 // beyond MaxElevation or rating.MaxDischarge), a negative discharge
 // (ErrNegativeDischarge), an unknown quality word, an uncertainty that is
 // not a number in range (ErrUncertainty), and a time given twice
@@ -115,7 +115,7 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 		return gs, err
 	}
 	gs.Site = t.Site()
-	rd := &gaugingReader{t: t, cols: cols, off: off, seen: map[gaugingInstant]int{}}
+	rd := &gaugingReader{t: t, cols: cols, off: off, seen: map[int64]int{}}
 	for _, rec := range t.Records {
 		if g, ok := rd.row(rec); ok {
 			gs.Gaugings = append(gs.Gaugings, g)
@@ -156,13 +156,6 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	return c, nil
 }
 
-// gaugingInstant is a gauging's time as an instant: offsets count, so
-// 10:00+01:00 is 09:00Z.
-type gaugingInstant struct {
-	sec  int64
-	nsec int
-}
-
 // gaugingReader reads the rows of a gaugings table, gathering the errors
 // of every cell.
 type gaugingReader struct {
@@ -172,8 +165,9 @@ type gaugingReader struct {
 	off int64
 	// form is the form of the table's first time.
 	form offsetForm
-	// seen holds the row of every time read.
-	seen map[gaugingInstant]int
+	// seen holds the row of every time read, by its instant (Unix
+	// seconds): offsets count, so 10:00+10:00 and 00:00Z are one time.
+	seen map[int64]int
 	errs errorList
 }
 
@@ -215,10 +209,10 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 	t, ct := rd.t, rd.cols.time
 	s := t.Cell(rec, ct)
 	if s == "" {
-		rd.add(rec, ct, fmt.Errorf("%w: time is blank", ErrBadTime))
+		rd.add(rec, ct, ErrBlankTime)
 		return false
 	}
-	tm, zoned, err := parseTime(s, t.Sheet != "", t.Date1904)
+	sec, zone, zoned, err := cellTimeZone(s, t.Sheet != "", t.Date1904, rd.off)
 	if err == nil {
 		err = rd.form.check(rec.Row, zoned)
 	}
@@ -226,15 +220,11 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 		rd.add(rec, ct, err)
 		return false
 	}
-	if !zoned && rd.off != 0 {
-		tm = time.Unix(tm.Unix()-rd.off, int64(tm.Nanosecond())).UTC()
-	}
-	g.Time = tm
-	key := gaugingInstant{tm.Unix(), tm.Nanosecond()}
-	if prev, dup := rd.seen[key]; dup {
+	g.Time = instant(sec, zone, zoned) // reported as written when no offset is chosen
+	if prev, dup := rd.seen[sec]; dup {
 		rd.add(rec, ct, fmt.Errorf("%w: the same time as row %d", ErrDuplicateTime, prev))
 	} else {
-		rd.seen[key] = rec.Row
+		rd.seen[sec] = rec.Row
 	}
 	return true
 }

@@ -43,7 +43,7 @@ func TestParseGaugingsErrors(t *testing.T) {
 		is       error
 	}{
 		{"negative discharge", "time,stage,discharge\n2024-01-01,1,-3\n", []string{"g.csv:2:3", "must not be negative"}, ErrNegativeDischarge},
-		{"bad date", "time,stage,discharge\n2024-13-45,1,3\n", []string{"g.csv:2:1", `time "2024-13-45"`}, ErrBadTime},
+		{"bad date", "time,stage,discharge\n2024-13-45,1,3\n", []string{"g.csv:2:1", `time "2024-13-45"`}, ErrISOTime},
 		{"serial in csv", "time,stage,discharge\n45000,1,3\n", []string{"g.csv:2:1"}, ErrSerialInCSV},
 		{"duplicate time", "time,stage,discharge\n2024-01-01T10:00,1,3\n2024-01-01T10:00,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
 		{"duplicate instant", "time,stage,discharge\n2024-01-01T10:00+01:00,1,3\n2024-01-01T09:00:00Z,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
@@ -51,7 +51,7 @@ func TestParseGaugingsErrors(t *testing.T) {
 		{"quality word", "time,stage,discharge,quality\n2024-01-01,1,3,superb\n", []string{"g.csv:2:4"}, rating.ErrQuality},
 		{"no discharge column", "time,stage,flow\n2024-01-01,1,3\n", []string{"discharge"}, ErrMissingColumn},
 		{"no rows", "time,stage,discharge\n", []string{"no data rows"}, ErrEmpty},
-		{"two rows bad", "time,stage,discharge\nx,1,3\n2024-01-02,1,-1\n", []string{"g.csv:2:1", "g.csv:3:3"}, ErrBadTime},
+		{"two rows bad", "time,stage,discharge\nx,1,3\n2024-01-02,1,-1\n", []string{"g.csv:2:1", "g.csv:3:3"}, ErrISOTime},
 		{"uncertainty not a number", "time,stage,discharge,uncertainty\n2024-01-01,1,3,five\n", []string{"g.csv:2:4", `"five"`}, ErrNotNumber},
 		{"uncertainty zero", "time,stage,discharge,uncertainty\n2024-01-01,1,3,0\n", []string{"g.csv:2:4", "above 0"}, ErrUncertainty},
 		{"uncertainty negative", "time,stage,discharge,exclude,uncertainty (%)\n2024-01-01,1,3,,-4\n", []string{"g.csv:2:5"}, ErrUncertainty},

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 	"time"
 
 	"github.com/xuri/excelize/v2"
@@ -48,51 +49,86 @@ func checkYear(y int64) error {
 	return nil
 }
 
-// ParseISOTime reads an ISO 8601 date-time: a date (2024-03-05), or a date
-// and a time to the minute or second (2024-03-05T14:30, 2024-03-05
-// 14:30:15; 'T' or a space between them; a one-digit hour is allowed, as
-// spreadsheets write it), with an optional offset (Z,
-// +10:00, -0500, +10). A time written without an offset is at UTC plus
-// offset (UTC when offset is 0). Fractions of a second are allowed only
-// when zero. The result is in UTC. Errors wrap ErrISOTime, ErrSubSecond,
-// or ErrYear for a year outside MinYear to MaxYear.
+// ParseISOTime reads a time as every reader of times in wetline does: the
+// cells of stage records, gaugings, shift diagrams and rating periods
+// (valid_from), and the times of the command line (--period, --exclude,
+// FILE@TIME). The forms read are those of the extended format of
+// ISO 8601-1:2019 (the profile of RFC 3339, 5.6, with its relaxations
+// below), and no others:
+//
+//	YYYY-MM-DD                      a date: its first instant, 00:00
+//	YYYY-MM-DDThh:mm                a date and a time to the minute
+//	YYYY-MM-DDThh:mm:ss             ... to the second
+//	YYYY-MM-DDThh:mm:ss.fff         ... with a fraction of a second (',' or '.',
+//	                                any number of digits), read only when zero
+//
+// A time of day may end in a UTC offset: Z (UTC), ±hh:mm, or the basic
+// forms ±hhmm and ±hh (+10:00, -0500, +10), hours 00 to 23 and minutes 00
+// to 59; a date alone takes none. A space may stand for the T, as
+// spreadsheets and databases write it; t and z may be lower case (RFC 3339,
+// 5.6, note); the hour may have one digit (9:30), as spreadsheets write it.
+// Leading and trailing spaces are dropped. Day-first and month-first dates
+// (03/04/2026) are refused: they are ambiguous.
+//
+// A time written without an offset is at UTC plus offset (UTC when offset
+// is 0). The result is the instant, located at the offset written with it
+// (a fixed zone, so that it is reported as it was written), else in UTC.
+// Errors wrap ErrISOTime (no such form or no
+// such date), ErrSubSecond (a fraction that is not zero: every time is
+// kept to the second) or ErrYear (a year, as written, outside MinYear to
+// MaxYear).
+//
+// References:
+//
+//	ISO 8601-1:2019, Date and time — Representations for information
+//	interchange — Part 1: Basic rules (calendar dates, time of day, time
+//	shift from UTC, date and time of day; extended and basic formats).
+//	Klyne, G., and Newman, C., 2002, Date and Time on the Internet:
+//	Timestamps, RFC 3339, 5.6.
 func ParseISOTime(s string, offset time.Duration) (time.Time, error) {
-	sec, err := parseISO(s, int64(offset/time.Second))
+	sec, zone, zoned, err := parseISOZone(strings.TrimSpace(s), int64(offset/time.Second))
 	if err != nil {
 		return time.Time{}, err
 	}
-	return time.Unix(sec, 0).UTC(), nil
+	return instant(sec, zone, zoned), nil
 }
 
-// parseISO reads an ISO 8601 date-time (see ParseISOTime) as Unix seconds;
-// off is the offset in seconds of a time written without one.
-func parseISO[T string | []byte](b T, off int64) (int64, error) {
-	sec, _, err := parseISOZone(b, off)
-	return sec, err
+// instant is the time of Unix seconds sec, located at the offset zone
+// (seconds east) when it was written with the time (zoned), else in UTC.
+func instant(sec, zone int64, zoned bool) time.Time {
+	t := time.Unix(sec, 0).UTC()
+	if zoned && zone != 0 {
+		t = t.In(time.FixedZone("", int(zone)))
+	}
+	return t
 }
 
-// parseISOZone is parseISO, also telling whether the text carries a UTC
-// offset of its own (zoned).
-func parseISOZone[T string | []byte](b T, off int64) (sec int64, zoned bool, err error) {
+// parseISOZone reads an ISO 8601 date-time (see ParseISOTime) as Unix
+// seconds; off is the offset in seconds of a time written without one.
+// zoned tells whether the text carries a UTC offset of its own, zone the
+// offset it was read at (seconds east: the written one, else off). It is
+// the one parser of times: every reader of times comes to it, through
+// cellTime, cellTimeZone or ParseISOTime.
+func parseISOZone[T string | []byte](b T, off int64) (sec, zone int64, zoned bool, err error) {
 	n := len(b)
 	if n < 10 || b[4] != '-' || b[7] != '-' {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	y, ok1 := digits(b, 0, 4)
 	mo, ok2 := digits(b, 5, 2)
 	d, ok3 := digits(b, 8, 2)
 	if !ok1 || !ok2 || !ok3 || mo < 1 || mo > 12 || d < 1 || d > daysIn(y, mo) {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	days := daysFromCivil(y, mo, d)
 	if n == 10 {
 		if err := checkYear(y); err != nil {
-			return 0, false, err
+			return 0, 0, false, err
 		}
-		return days*86400 - off, false, nil
+		return days*86400 - off, off, false, nil
 	}
 	if c := b[10]; c != 'T' && c != 't' && c != ' ' {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	// The hour may have one digit, as spreadsheets write it (9:30).
 	i := 12
@@ -101,18 +137,18 @@ func parseISOZone[T string | []byte](b T, off int64) (sec int64, zoned bool, err
 	}
 	hh, ok1 := digits(b, 11, i-11)
 	if i >= n || b[i] != ':' {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	mm, ok2 := digits(b, i+1, 2)
 	if !ok1 || !ok2 || hh > 23 || mm > 59 {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	i += 3
 	var ss int64
 	if i < n && b[i] == ':' {
 		v, ok := digits(b, i+1, 2)
 		if !ok || v > 59 {
-			return 0, false, ErrISOTime
+			return 0, 0, false, ErrISOTime
 		}
 		ss, i = v, i+3
 		if i < n && (b[i] == '.' || b[i] == ',') {
@@ -123,22 +159,21 @@ func parseISOZone[T string | []byte](b T, off int64) (sec int64, zoned bool, err
 				j++
 			}
 			if j == i+1 {
-				return 0, false, ErrISOTime
+				return 0, 0, false, ErrISOTime
 			}
 			if nonzero {
-				return 0, false, ErrSubSecond
+				return 0, 0, false, ErrSubSecond
 			}
 			i = j
 		}
 	}
-	zone, err := zoneOffset(b, i, off)
-	if err != nil {
-		return 0, false, err
+	if zone, err = zoneOffset(b, i, off); err != nil {
+		return 0, 0, false, err
 	}
 	if err := checkYear(y); err != nil {
-		return 0, false, err
+		return 0, 0, false, err
 	}
-	return days*86400 + hh*3600 + mm*60 + ss - zone, i < n, nil
+	return days*86400 + hh*3600 + mm*60 + ss - zone, zone, i < n, nil
 }
 
 // zoneOffset reads the zone designator at b[i:] (none, Z, ±hh[[:]mm]) as
@@ -239,28 +274,36 @@ func checkOffset(off time.Duration) (int64, error) {
 	return int64(off / time.Second), nil
 }
 
-// cellTime reads a time cell of a record or a diagram: ISO 8601 text, or in
-// a workbook a date serial (local time at the offset off, in seconds),
-// rounded to the second. zoned tells a text written with a UTC offset of
-// its own (a serial has none). In a CSV file a bare number is
-// ErrSerialInCSV; a year outside MinYear to MaxYear is ErrYear.
+// cellTime reads a time cell of a record or a diagram: ISO 8601 text
+// (see ParseISOTime), or in a workbook a date serial (local time at the
+// offset off, in seconds), rounded to the second. zoned tells a text
+// written with a UTC offset of its own (a serial has none). In a CSV file
+// a bare number is ErrSerialInCSV; a year outside MinYear to MaxYear is
+// ErrYear.
 func cellTime[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec int64, zoned bool, err error) {
-	sec, zoned, err = parseISOZone(s, off)
+	sec, _, zoned, err = cellTimeZone(s, inWorkbook, date1904, off)
+	return sec, zoned, err
+}
+
+// cellTimeZone is cellTime, also returning the offset the time was read at
+// (seconds east: the one written with it, else off).
+func cellTimeZone[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec, zone int64, zoned bool, err error) {
+	sec, zone, zoned, err = parseISOZone(s, off)
 	if err == nil || !errors.Is(err, ErrISOTime) {
-		return sec, zoned, err
+		return sec, zone, zoned, err
 	}
 	v, nerr := ParseNumber(string(s))
 	if nerr != nil {
-		return 0, false, ErrISOTime
+		return 0, 0, false, ErrISOTime
 	}
 	if !inWorkbook {
-		return 0, false, ErrSerialInCSV
+		return 0, 0, false, ErrSerialInCSV
 	}
 	t, err := serialTime(v, date1904, ErrISOTime)
 	if err != nil {
-		return 0, false, err
+		return 0, 0, false, err
 	}
-	return t.Unix() - off, false, nil
+	return t.Unix() - off, off, false, nil
 }
 
 // serialTime turns a workbook date serial into the time it stands for

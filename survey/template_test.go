@@ -337,8 +337,8 @@ func TestFilledTemplateReads(t *testing.T) {
 	}
 	_, _, err = tab.Time(tab.Records[2], ct)
 	var pe *survey.ParseError
-	if !errors.As(err, &pe) || !errors.Is(err, survey.ErrBadTime) {
-		t.Fatalf("day-first date: %v, want ErrNotTime", err)
+	if !errors.As(err, &pe) || !errors.Is(err, survey.ErrISOTime) {
+		t.Fatalf("day-first date: %v, want ErrISOTime", err)
 	}
 	if want := "field.xlsx['gaugings']!A5"; !strings.HasSuffix(pe.Position(), want) {
 		t.Errorf("position %q, want …%s", pe.Position(), want)
@@ -411,10 +411,10 @@ func TestTableTime(t *testing.T) {
 		{"2026-03-14T09:30:15", false, time.Date(2026, 3, 14, 9, 30, 15, 0, time.UTC), nil},
 		{"2026-03-14T09:30:00-05:00", false, time.Date(2026, 3, 14, 14, 30, 0, 0, time.UTC), nil},
 		{"2026-03-14", false, time.Date(2026, 3, 14, 0, 0, 0, 0, time.UTC), nil},
-		{"03/14/2026", false, time.Time{}, survey.ErrBadTime},
-		{"-3", false, time.Time{}, survey.ErrBadTime},
-		{"1e9", false, time.Time{}, survey.ErrBadTime},
-		{"NaN", false, time.Time{}, survey.ErrBadTime},
+		{"03/14/2026", false, time.Time{}, survey.ErrISOTime},
+		{"-3", false, time.Time{}, survey.ErrISOTime},
+		{"1e9", false, time.Time{}, survey.ErrISOTime},
+		{"NaN", false, time.Time{}, survey.ErrISOTime},
 	} {
 		tab := &survey.Table{File: "g.xlsx", Sheet: "gaugings", Header: []string{"time"}, Date1904: tc.date1904,
 			Records: []survey.Record{{Row: 2, Cells: []string{tc.cell}}}}

@@ -528,14 +528,10 @@ func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
 		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
 }
 
-// parseTime reads a time of --period or --exclude: ISO 8601, a time
-// written without an offset taken at --utc-offset (UTC by default), as the
-// gaugings' times are.
+// parseTime reads a time of --period or --exclude in the forms of
+// survey.ParseISOTime, a time written without an offset taken at
+// --utc-offset (UTC by default), as the gaugings' times are.
 func (f *fitFlags) parseTime(s string) (time.Time, error) {
-	s = strings.TrimSpace(s)
-	if f.offset == 0 {
-		return survey.ParseTime(s, false, false)
-	}
 	return survey.ParseISOTime(s, time.Duration(f.offset))
 }
 

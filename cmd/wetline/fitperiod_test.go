@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"os"
@@ -195,5 +196,62 @@ func TestFitReportsAtOffset(t *testing.T) {
 	}
 	if zone != "UTC+10:00" {
 		t.Errorf("summary: times in %q, want UTC+10:00", zone)
+	}
+}
+
+// The times of --exclude, --period and --rating FILE@TIME are read in the
+// forms of every time in a file (survey.ParseISOTime), with the same
+// message, whatever --utc-offset says. The instants follow the offset rule
+// of RFC 3339, 4.2 (local time minus its offset is UTC), worked by hand.
+func TestFlagTimesOneForm(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		in   string
+		want string // the instant in UTC; "" when refused
+		says string // the cause when refused
+	}{
+		{"2025-07-31T09:00:00-0500", "2025-07-31T14:00:00Z", ""},
+		{"2025-07-31T09:00-05", "2025-07-31T14:00:00Z", ""},
+		{"2025-07-31 09:00+10:00", "2025-07-30T23:00:00Z", ""},
+		{"2025-07-31t09:00z", "2025-07-31T09:00:00Z", ""},
+		{"2025-07-31T09:00:00.000Z", "2025-07-31T09:00:00Z", ""},
+		{"2025-07-31T09:00:00.5Z", "", "fractions of a second are not kept"},
+		{"45869", "", "not an ISO 8601 date-time"},
+		{"31/07/2025", "", "not an ISO 8601 date-time"},
+	} {
+		for _, off := range []time.Duration{0, 10 * time.Hour} {
+			t.Run(fmt.Sprintf("%s at %v", tc.in, off), func(t *testing.T) {
+				t.Parallel()
+				f := &fitFlags{exclude: tc.in, period: tc.in + "..", offset: utcOffset(off)}
+				sel, errSel := f.selection(true)
+				h := &historyFlags{cmd: "record", offset: utcOffset(off)}
+				spec, errSpec := h.parseRatingSpec("no-such-rating.csv@" + tc.in)
+				if tc.want == "" {
+					for _, err := range []error{errSel, errSpec} {
+						var ue usageError
+						if !errors.As(err, &ue) || !strings.Contains(err.Error(), ": "+tc.says) {
+							t.Errorf("%v; want a usage error saying %q", err, tc.says)
+						}
+					}
+					if t.Failed() {
+						return
+					}
+					if a, b := errSel.Error(), errSpec.Error(); a[strings.Index(a, tc.says):] != b[strings.Index(b, tc.says):] {
+						t.Errorf("--exclude says %q, --rating @ %q", a, b)
+					}
+					return
+				}
+				want, err := time.Parse(time.RFC3339, tc.want)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if errSel != nil || len(sel.Exclude) != 1 || !sel.Exclude[0].Equal(want) || !sel.From.Equal(want) {
+					t.Errorf("--exclude, --period: %v, %v; want %v", sel, errSel, want)
+				}
+				if errSpec != nil || !spec.from.Equal(want) {
+					t.Errorf("--rating @: %v, %v; want %v", spec.from, errSpec, want)
+				}
+			})
+		}
 	}
 }
