@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -46,30 +47,6 @@ var ErrRatingStageOrder = errors.New("stages of a rating table must increase fro
 // is read.
 var ErrRatingPeriods = errors.New("one rating per file is read; give each period a file of its own")
 
-// ratingPeriods returns the number of rating periods in column cv (a
-// valid_from column) as RatingTablesFromTable groups them: a new period at
-// each time that is not blank and not the instant of the period above
-// (times that do not parse are told apart by their text).
-func ratingPeriods(t *Table, cv int) int {
-	n, last := 0, ""
-	var lastSec int64
-	lastOK := false
-	for _, rec := range t.Records {
-		s := t.Cell(rec, cv)
-		if s == "" {
-			continue
-		}
-		sec, _, err := cellTime(s, t.Sheet != "", t.Date1904, 0)
-		ok := err == nil
-		same := n > 0 && ((ok && lastOK && sec == lastSec) || s == last)
-		if !same {
-			n++
-		}
-		last, lastSec, lastOK = s, sec, ok
-	}
-	return n
-}
-
 // KindFitted is the Kind of a rating table read with a rating fit's
 // columns (basis or extrapolated).
 const KindFitted = "fitted rating"
@@ -93,7 +70,10 @@ const (
 // (ErrRatingStageOrder at the stage cell of a row that does not) and no
 // discharge may be negative (gauged.ErrRatingNegative at its cell, as a
 // rating table is read for the record and compare). A valid_from column
-// may hold one time, not several rating periods (ErrRatingPeriods); every
+// may hold one time, not several rating periods (ErrRatingPeriods), its
+// times read and checked as RatingTablesFromTable reads them (ParseISOTime's
+// forms or a workbook date, ErrYear, ErrMixedOffsets: a ParseError at the
+// cell; offsets count, so one instant written twice is one period); every
 // other column may be missing or blank (NaN). Per-subsection columns are
 // not read. Bottom is stage − depth where a depth is given, else the
 // lowest stage; Top is the highest stage. Slope is the friction slope
@@ -120,17 +100,24 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if out.Units, err = note.Resolve(choice.Units, choice.Given); err != nil {
 		return out, err
 	}
-	if cv := t.Column(ColRatingValidFrom); cv >= 0 {
-		if n := ratingPeriods(t, cv); n > 1 {
-			return out, &ParseError{File: t.File, Sheet: t.Sheet,
-				Err: fmt.Errorf("holds %d rating periods (a %s column): %w", n, ColRatingValidFrom, ErrRatingPeriods)}
-		}
-	}
+	cv := t.Column(ColRatingValidFrom)
+	vf := validFromReader{t: t, col: cv}
+	periods := 0 // the rating periods of the times read, grouped as RatingTablesFromTable groups them
+	var lastFrom time.Time
 	cells := rowCells{t: t}
 	out.Bottom, out.Top = math.Inf(1), math.Inf(-1)
 	bottomFromDepth := false
 	last := math.NaN() // the stage of the row before, read or not
 	for _, rec := range t.Records {
+		if cv >= 0 {
+			from, given, perr := vf.read(rec)
+			switch {
+			case perr != nil:
+				cells.errs = append(cells.errs, perr)
+			case given && (periods == 0 || !from.Equal(lastFrom)):
+				periods, lastFrom = periods+1, from
+			}
+		}
 		opt := func(name string) float64 { return cells.optional(rec, name) }
 		r := rating.Row{
 			Stage: cells.needed(rec, cs, "stage", MaxElevation), Discharge: cells.needed(rec, cq, "discharge", rating.MaxDischarge),
@@ -162,6 +149,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 			out.Bottom = math.Min(out.Bottom, r.Stage)
 		}
 		out.Rows = append(out.Rows, r)
+	}
+	if periods > 1 {
+		return out, &ParseError{File: t.File, Sheet: t.Sheet,
+			Err: fmt.Errorf("holds %d rating periods (a %s column): %w", periods, ColRatingValidFrom, ErrRatingPeriods)}
 	}
 	if err := cells.errs.err(); err != nil {
 		return out, err

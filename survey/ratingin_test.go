@@ -36,16 +36,49 @@ func TestRatingFromTableErrors(t *testing.T) {
 }
 
 // One time in a valid_from column, written again or in another form of
-// the same instant, is one rating and is read.
+// the same instant (of the same form, with or without an offset), is one
+// rating and is read.
 func TestRatingFromTableOnePeriod(t *testing.T) {
 	for _, csv := range []string{
 		"valid_from,stage,discharge\n2024-01-01,1,0\n,2,5\n",
-		"valid_from,stage,discharge\n2024-01-01,1,0\n2024-01-01T00:00:00Z,2,5\n2024-01-01,3,9\n",
+		"valid_from,stage,discharge\n2024-01-01,1,0\n2024-01-01T00:00:00,2,5\n2024-01-01 00:00,3,9\n",
+		"valid_from,stage,discharge\n2024-01-01T10:00+10:00,1,0\n2024-01-01T00:00:00Z,2,5\n",
 	} {
 		tab, err := ParseRatingCSV(strings.NewReader(csv), "t.csv", UnitChoice{})
 		if err != nil || len(tab.Rows) < 2 {
 			t.Errorf("%q: %d rows, %v", csv, len(tab.Rows), err)
 		}
+	}
+}
+
+// The times of a valid_from column are read as those of every other
+// reader (see ParseISOTime): a time that is not one, a year outside
+// MinYear to MaxYear, or a form with an offset in a file whose first time
+// has none (or the other way round), is a ParseError at its cell, with
+// the message RatingTablesFromTable gives for the same cell.
+func TestRatingFromTableTimes(t *testing.T) {
+	head := "valid_from,stage,discharge\n"
+	for _, tc := range []struct {
+		name, csv string
+		is        error
+		row       int
+		want      string
+	}{
+		{"year 1", head + "0001-01-01,1,0\n,2,5\n", ErrYear, 2, "t.csv:2:1: valid_from \"0001-01-01\": year 1 is not a plausible year"},
+		{"year 2201", head + "2201-01-01T00:00Z,1,0\n,2,5\n", ErrYear, 2, "year 2201"},
+		{"with an offset after none", head + "2024-01-01,1,0\n2024-01-01T00:00Z,2,5\n", ErrMixedOffsets, 3, "t.csv:3:1: valid_from \"2024-01-01T00:00Z\": times with and without a UTC offset in one file: row 3 has one, row 2 has none"},
+		{"none after an offset", head + "2024-01-01T00:00+00:00,1,0\n2024-01-01,2,5\n", ErrMixedOffsets, 3, "row 2 has one, row 3 has none"},
+		{"not a time", head + "2024-13-01,1,0\n,2,5\n", ErrISOTime, 2, "t.csv:2:1: valid_from \"2024-13-01\": not an ISO 8601 date-time"},
+		{"day first", head + "01/02/2024,1,0\n,2,5\n", ErrISOTime, 2, "not an ISO 8601 date-time"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
+			checkCellError(t, err, tc.is, tc.row, 1, tc.want)
+			_, other := ParseRatingTables(strings.NewReader(tc.csv), "t.csv", RatingTableOptions{})
+			if err != nil && other != nil && err.Error() != other.Error() {
+				t.Errorf("RatingFromTable says %q, RatingTablesFromTable %q", err, other)
+			}
+		})
 	}
 }
 

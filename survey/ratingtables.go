@@ -71,6 +71,35 @@ type RatingTables struct {
 // table that has a valid_from column.
 var ErrValidFromBlank = errors.New("the first row of a table with a valid_from column needs a time")
 
+// validFromReader reads the times of a valid_from column (col) as
+// RatingTablesFromTable and RatingFromTable read them: cellTime at the
+// offset off (seconds), every time of one form (ErrMixedOffsets).
+type validFromReader struct {
+	t    *Table
+	col  int
+	off  int64
+	form offsetForm
+}
+
+// read returns the time of rec's valid_from cell; given is false when the
+// cell is blank. A bad time is a *ParseError at the cell (ErrISOTime,
+// ErrSubSecond, ErrSerialInCSV, ErrYear, ErrMixedOffsets).
+func (r *validFromReader) read(rec Record) (from time.Time, given bool, err *ParseError) {
+	t := r.t
+	s := t.Cell(rec, r.col)
+	if s == "" {
+		return time.Time{}, false, nil
+	}
+	sec, zoned, cerr := cellTime(s, t.Sheet != "", t.Date1904, r.off)
+	if cerr == nil {
+		cerr = r.form.check(rec.Row, zoned)
+	}
+	if cerr != nil {
+		return time.Time{}, true, t.At(rec, r.col, cerr)
+	}
+	return time.Unix(sec, 0).UTC(), true, nil
+}
+
 // ReadRatingTables reads rating tables from a CSV file or a workbook sheet
 // (by extension). See RatingTablesFromTable.
 func ReadRatingTables(path string, opt RatingTableOptions) (RatingTables, error) {
@@ -126,18 +155,13 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)
 	var errs errorList
 	var groups []ratingGroup
-	var form offsetForm
+	vf := validFromReader{t: t, col: cv, off: off}
 	for _, rec := range t.Records {
 		if cv >= 0 {
-			if s := t.Cell(rec, cv); s != "" {
-				sec, zoned, err := cellTime(s, t.Sheet != "", t.Date1904, off)
-				if err == nil {
-					err = form.check(rec.Row, zoned)
-				}
-				from := time.Unix(sec, 0).UTC()
+			if from, given, perr := vf.read(rec); given {
 				switch {
-				case err != nil:
-					errs = append(errs, t.At(rec, cv, err))
+				case perr != nil:
+					errs = append(errs, perr)
 					groups = append(groups, ratingGroup{from: from, fromRec: rec})
 				case len(groups) > 0 && groups[len(groups)-1].from.Equal(from):
 					// The time of the row above, written again: the same period.
