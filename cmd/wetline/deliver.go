@@ -7,6 +7,7 @@ import (
 	"path/filepath"
 
 	"wetline/rating"
+	"wetline/survey/output"
 	"wetline/survey/results"
 )
 
@@ -32,7 +33,10 @@ type delivery struct {
 // toStdout reports whether the report goes to standard output.
 func (d delivery) toStdout() bool { return d.output == "" || d.output == "-" }
 
-// deliver writes the report and the figures, then commits them.
+// deliver writes the report and the figures, then commits them. A report
+// file that is one of the figures (-o naming a file --plots writes) is
+// refused, naming both flags and wrapping output.ErrTwice, before anything
+// is written.
 func (e *env) deliver(d delivery) error {
 	f := e.files
 	f.Protect(d.inputs...)
@@ -44,6 +48,14 @@ func (e *env) deliver(d delivery) error {
 		}
 	}
 	if !d.toStdout() {
+		for _, p := range figPaths {
+			if output.SamePath(d.output, p) {
+				// Known only now: the figures' names come from the
+				// inputs read and the figures drawn.
+				return fmt.Errorf("-o %s is also a figure written into --plots %s (%w): give the report another name or the figures another folder",
+					d.output, d.plots, output.ErrTwice)
+			}
+		}
 		if err := f.Check(d.output); err != nil {
 			return err
 		}

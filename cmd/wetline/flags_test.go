@@ -139,3 +139,27 @@ func TestHelpZeroDefaults(t *testing.T) {
 		}
 	}
 }
+
+// TestOutputIsAFigure: -o naming one of the figures --plots writes (a
+// report with --format and a .png name) is refused, naming both flags,
+// before anything is written. The figures' names come from the section
+// read and the figures drawn, so this is found after computing: exit 1.
+func TestOutputIsAFigure(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	figs := filepath.Join(dir, "figs")
+	report := filepath.Join(figs, "tallow-xs1-rating.png")
+	_, errs, code := runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "--format", "csv", "-o", report, "--plots", figs)
+	want := "-o " + report + " is also a figure written into --plots " + figs
+	if code != 1 || !strings.Contains(errs, want) || !strings.Contains(errs, "written twice in one run") {
+		t.Errorf("exit %d, want 1 with %q:\n%s", code, want, errs)
+	}
+	if _, err := os.Stat(figs); !os.IsNotExist(err) {
+		t.Errorf("the figures' folder was made: %v", err)
+	}
+	// Another name in that folder is no figure's: the run goes through.
+	_, errs, code = runCLI(t, "rate", demoSurveyPath, "--slope", "0.001", "--format", "csv", "-o", filepath.Join(figs, "table.png"), "--plots", figs)
+	if code != 0 {
+		t.Errorf("a report beside the figures: exit %d: %s", code, errs)
+	}
+}
