@@ -2,7 +2,8 @@
 // of a folder, every survey sheet of a workbook, or a list of files. The
 // sections are rated on a pool of workers and their results come back in
 // input order; a section that fails is listed with its error and does not
-// stop the others.
+// stop the others, so that every failure is found in one run. The
+// command commits a batch's output only when no section failed.
 //
 // A survey with a header and no rows (a blank sheet of the field
 // workbook) is skipped with a note, not failed.
@@ -424,8 +425,10 @@ func (s Summary) Err(where string) error {
 // Folder rates the jobs into a batch folder at dir, staged in files (the
 // folder replaces an earlier one only when files is committed): one table
 // per section in format "csv" or "json", and the index. Only the index
-// and the tables of sections that were rated are written; the index lists
-// every section, failed and skipped ones too.
+// and the tables of sections that were rated are staged; the index lists
+// every section, failed and skipped ones too. The caller commits files
+// only when the Summary counts no failed section, and discards them
+// otherwise, so a failed batch leaves an earlier folder as it was.
 func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	d, err := files.Folder(dir, IndexFile)
