@@ -440,3 +440,47 @@ func TestRateDefaultStepRaised(t *testing.T) {
 		t.Errorf("single run: no warning of the raised step:\n%s", errs)
 	}
 }
+
+// TestRateNoDepth: with default stages, a flat section (every point at one
+// elevation) and one shallower than the 0.0001 its table writes stages
+// apart are faults of the survey: exit 1, naming the file and that the
+// section has no depth to rate, alone or in a batch. Asked for with
+// --from/--to, the same too-narrow range stays a command-line mistake.
+func TestRateNoDepth(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	flat := filepath.Join(dir, "flat.csv")
+	shallow := filepath.Join(dir, "shallow.csv")
+	for p, text := range map[string]string{
+		flat:    "station,elevation,n\n0,10,0.03\n1,10,0.03\n2,10,0.03\n",
+		shallow: "station,elevation,n\n0,10.00005,0.03\n1,10,0.03\n2,10.00005,0.03\n",
+	} {
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, tc := range []struct {
+		args []string
+		code int
+		want []string
+	}{
+		{[]string{flat}, 1, []string{"wetline: " + flat + ": the section has no depth to rate"}},
+		{[]string{shallow}, 1, []string{"wetline: " + shallow + ": the section has no depth to rate", "5e-05 below"}},
+		{[]string{flat, shallow, "--long"}, 1, []string{"failed: flat: " + flat + ": the section has no depth to rate",
+			"failed: shallow: " + shallow + ": the section has no depth to rate"}},
+		{[]string{shallow, "--from", "10", "--to", "10.00005"}, 2, []string{"give a wider --from/--to range"}},
+	} {
+		_, errs, code := runCLI(t, append([]string{"rate", "--slope", "0.001"}, tc.args...)...)
+		if code != tc.code {
+			t.Errorf("%v: exit %d, want %d:\n%s", tc.args, code, tc.code, errs)
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(errs, w) {
+				t.Errorf("%v: stderr lacks %q:\n%s", tc.args, w, errs)
+			}
+		}
+		if tc.code == 1 && strings.Contains(errs, "--from/--to") {
+			t.Errorf("%v: a survey fault blamed on a range flag:\n%s", tc.args, errs)
+		}
+	}
+}

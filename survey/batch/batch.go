@@ -263,7 +263,8 @@ const SkippedNote = "a header and no survey rows"
 // cross-section sheets until the crew fills them. A section whose stages
 // its table would write alike (results.ErrStagesAlike: a range shorter
 // than results.LengthResolution, or a given step or list that fine)
-// fails.
+// fails; with default stages it fails as one with no depth to rate
+// (results.ErrNoDepth), as one holding no water below its ends does.
 func Rate(j Job, opt Options) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
@@ -293,10 +294,7 @@ func Rate(j Job, opt Options) Result {
 	// a range shorter than that is refused, as a table of repeated stages.
 	spec := opt.Stages
 	spec.MinStep = math.Max(spec.MinStep, results.LengthResolution)
-	stages, stageWarnings, err := spec.StagesWarn(p.Geometry)
-	if err == nil {
-		err = results.CheckStagesApart(stages)
-	}
+	stages, stageWarnings, err := results.TableStages(spec, p.Geometry, p.Source())
 	if err != nil {
 		return fail(err)
 	}
