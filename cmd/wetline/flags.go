@@ -57,7 +57,61 @@ func (fs *flagSet) parse(e *env, args []string) error {
 	if bad != nil {
 		return bad
 	}
+	if err := fs.oneStdin(); err != nil {
+		return err
+	}
 	return fs.distinctOutputs()
+}
+
+// inputKey is the flag annotation marking a flag that names an input file.
+const inputKey = "wetline/input"
+
+// input marks the flags names as naming input files, which may be "-" for
+// standard input (a list flag's values may be FILE@TIME): parse refuses
+// standard input named twice (oneStdin).
+func (fs *flagSet) input(names ...string) { fs.annotate(inputKey, "", names...) }
+
+// inputAfter marks the flags names as naming an input file after prefix
+// (as --boundary rating:FILE), for oneStdin.
+func (fs *flagSet) inputAfter(prefix string, names ...string) { fs.annotate(inputKey, prefix, names...) }
+
+// oneStdin refuses, as a usage error naming both places, standard input
+// (-) named twice among the arguments (every one an input, or a spec
+// that is never "-") and the input flags (marked with input): it can be
+// read only once.
+func (fs *flagSet) oneStdin() error {
+	var places []string
+	for i, a := range fs.Args() {
+		if a == "-" {
+			places = append(places, fmt.Sprintf("argument %d", i+1))
+		}
+	}
+	fs.VisitAll(func(f *pflag.Flag) {
+		if len(f.Annotations[inputKey]) == 0 || !f.Changed {
+			return
+		}
+		values := []string{f.Value.String()}
+		if sv, ok := f.Value.(pflag.SliceValue); ok {
+			values = sv.GetSlice()
+		}
+		prefix := f.Annotations[inputKey][0]
+		for _, v := range values {
+			if prefix != "" {
+				var ok bool
+				if v, ok = strings.CutPrefix(v, prefix); !ok {
+					continue
+				}
+			}
+			if v == "-" || strings.HasPrefix(v, "-@") {
+				places = append(places, flagWords(f)+" "+prefix+v)
+			}
+		}
+	})
+	if len(places) > 1 {
+		return usagef("%s: standard input (-) is named twice, as %s and as %s: it can be read only once; save one of the inputs to a file",
+			fs.Name(), places[0], places[1])
+	}
+	return nil
 }
 
 // Kinds of path an output flag names (see output).
