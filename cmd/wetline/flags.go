@@ -73,7 +73,9 @@ func (fs *flagSet) input(names ...string) { fs.annotate(inputKey, "", names...) 
 
 // inputAfter marks the flags names as naming an input file after prefix
 // (as --boundary rating:FILE), for oneStdin.
-func (fs *flagSet) inputAfter(prefix string, names ...string) { fs.annotate(inputKey, prefix, names...) }
+func (fs *flagSet) inputAfter(prefix string, names ...string) {
+	fs.annotate(inputKey, prefix, names...)
+}
 
 // oneStdin refuses, as a usage error naming both places, standard input
 // (-) named twice among the arguments (every one an input, or a spec
