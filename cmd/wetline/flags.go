@@ -205,6 +205,8 @@ func (fs *flagSet) help(w io.Writer) error {
 		case (f.DefValue == "0" || f.DefValue == "0s") && (!isNumber(f) || strings.Contains(f.Usage, "default") || f.Annotations[notGivenKey] != nil):
 			// a zero standing for a default said in words, for "not given",
 			// or of a value that is no number (an offset: UTC)
+		case f.Value.Type() == "duration":
+			def = fmt.Sprintf(" (default %s)", shortDuration(f.DefValue))
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
@@ -230,6 +232,18 @@ func (fs *flagSet) notGiven(names ...string) { fs.annotate(notGivenKey, "true", 
 // isNumber reports whether a flag takes a number or a duration.
 func isNumber(f *pflag.Flag) bool {
 	return argName(f.Value.Type()) == "NUM" || f.Value.Type() == "duration"
+}
+
+// shortDuration writes a duration as time.Duration.String does without its
+// zero trailing units: 2h0m0s is 2h, 1h30m0s 1h30m, 10m0s 10m.
+func shortDuration(s string) string {
+	if strings.HasSuffix(s, "m0s") {
+		s = strings.TrimSuffix(s, "0s")
+	}
+	if strings.HasSuffix(s, "h0m") {
+		s = strings.TrimSuffix(s, "0m")
+	}
+	return s
 }
 
 // argName names a flag's argument in help by its type.
