@@ -328,11 +328,22 @@ func NormalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error) 
 		return r.Discharge - q, err
 	}
 	return s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
-		fmt.Sprintf("discharge %g %s", q, opt.Units.Discharge()))
+		target{what: fmt.Sprintf("discharge %g %s", q, opt.Units.Discharge()), name: "discharge", verb: "carries", unit: opt.Units.Discharge(),
+			amount: func(h float64) (float64, error) { r, err := s.row(h); return r.Discharge, err }})
+}
+
+// target is what a solver looks for, for its messages: its description
+// (what), and, for a quantity that grows with stage, its name, the verb
+// of the section having it, and how much the section has at a stage
+// (amount, nil for none) in unit.
+type target struct {
+	what, name, verb string
+	amount           func(h float64) (float64, error)
+	unit             string
 }
 
 // solve searches the range and returns all roots of f, or ErrNoRoot.
-func (s solver) solve(f stageFunc, reached func(float64) (bool, error), what string) ([]Root, error) {
+func (s solver) solve(f stageFunc, reached func(float64) (bool, error), t target) ([]Root, error) {
 	lo, hi, err := s.searchRange(reached)
 	if err != nil {
 		return nil, err
@@ -342,9 +353,53 @@ func (s solver) solve(f stageFunc, reached func(float64) (bool, error), what str
 		return nil, err
 	}
 	if len(roots) == 0 {
-		return nil, fmt.Errorf("%s: %w from %g to %g %s", what, ErrNoRoot, lo, hi, s.opt.Units.Length())
+		return nil, s.noRoot(t, lo, hi)
 	}
 	return roots, nil
+}
+
+// noRoot is the ErrNoRoot of a search from lo to hi for t: it names the
+// range honestly (the section's own top, and how far above it the search
+// went between vertical walls at its ends) and, for a quantity, what the
+// section gives at its top and at the highest stage searched.
+func (s solver) noRoot(t target, lo, hi float64) error {
+	u := s.opt.Units.Length()
+	top := s.g.Top()
+	closed, _ := s.closed()
+	above := "between the walls"
+	walls := false
+	if w, err := s.g.At(hi, s.opt.Geometry); err == nil && hi > top {
+		walls = w.ExtendedLeft > 0 || w.ExtendedRight > 0
+	}
+	if !walls {
+		above = "with the shape continued"
+	}
+	var where string
+	switch {
+	case closed:
+		where = fmt.Sprintf("searched from the invert, %g %s, to the crown, %g %s", lo, u, top, u)
+	case hi > top && walls:
+		where = fmt.Sprintf("searched from the lowest point, %g %s, to the section's top, %g %s, and on above it between vertical walls raised at its ends up to %g %s",
+			lo, u, top, u, hi, u)
+	case hi > top:
+		where = fmt.Sprintf("searched from the lowest point, %g %s, to the section's top, %g %s, and on above it, the shape continued, up to %g %s",
+			lo, u, top, u, hi, u)
+	default:
+		where = fmt.Sprintf("searched from the lowest point, %g %s, to the section's top, %g %s (no stage above its ends is computed)", lo, u, top, u)
+	}
+	if t.amount != nil {
+		atTop, err1 := t.amount(top)
+		atHi, err2 := t.amount(hi)
+		switch {
+		case err1 != nil || err2 != nil:
+		case hi > top:
+			where += fmt.Sprintf("; the %s is more than the section %s at its top (%.4g %s) and at %g %s %s (%.4g %s)",
+				t.name, t.verb, atTop, t.unit, hi, u, above, atHi, t.unit)
+		default:
+			where += fmt.Sprintf("; the %s is more than the section %s at its top (%.4g %s)", t.name, t.verb, atTop, t.unit)
+		}
+	}
+	return fmt.Errorf("%s: %w: %s", t.what, ErrNoRoot, where)
 }
 
 // StageForArea returns the stage (elevation, length unit) at which
@@ -370,7 +425,8 @@ func StageForArea(g subdivide.Geometry, a float64, opt Options) (Root, error) {
 		return w.Area - a, err
 	}
 	roots, err := s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
-		fmt.Sprintf("area %g %s", a, opt.Units.Area()))
+		target{what: fmt.Sprintf("area %g %s", a, opt.Units.Area()), name: "area", verb: "holds", unit: opt.Units.Area(),
+			amount: func(h float64) (float64, error) { w, err := s.g.At(h, opt.Geometry); return w.Area, err }})
 	if err != nil {
 		return Root{}, err
 	}
@@ -430,7 +486,7 @@ func CriticalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error
 		return v, err
 	}
 	return s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
-		fmt.Sprintf("critical flow of %g %s", q, opt.Units.Discharge()))
+		target{what: fmt.Sprintf("critical flow of %g %s", q, opt.Units.Discharge())})
 }
 
 // CriticalDischarge returns the discharge that is critical at a stage,

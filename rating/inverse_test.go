@@ -1,6 +1,7 @@
 package rating
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -740,6 +741,42 @@ func checkWarnings(t *testing.T, warnings, want, lack []string) {
 	for _, w := range lack {
 		if strings.Contains(text, w) {
 			t.Errorf("warnings %q say %q", warnings, w)
+		}
+	}
+}
+
+// TestNoRootSaysTheRangeSearched: a discharge no stage carries names the
+// section's own top, how far above it the search went and how, and what
+// the section carries at its top. A rectangle 20 ft wide and 10 ft high,
+// n = 0.035, S = 0.001 (US units), full at its top: A = 200 ft²,
+// P = 40 ft, R = 5 ft, Q = (1.486/0.035)·200·5^(2/3)·√0.001 = 785.2 ft³/s
+// (Manning's equation evaluated by hand; Chow 1959, eq. 6-1). The search
+// doubles the depth six times (MaxSearchDoublings): up to 10·2⁶ = 640 ft.
+func TestNoRootSaysTheRangeSearched(t *testing.T) {
+	rect := mustShape(t, "rectangle:width=20,height=10", 0.035)
+	trap := mustShape(t, "trapezoid:bottom=5,side=2", 0.03)
+	for _, c := range []struct {
+		name string
+		g    subdivide.Geometry
+		q    float64
+		opt  Options
+		want []string
+	}{
+		{"walls", rect, 1e5, Options{Slope: 0.001, Units: US}, []string{
+			"discharge 100000 ft3/s: no stage in the section's range: searched from the lowest point, 0 ft, to the section's top, 10 ft, and on above it between vertical walls raised at its ends up to 640 ft",
+			"the discharge is more than the section carries at its top (785.2 ft3/s) and at 640 ft between the walls"}},
+		{"no extension", rect, 1e5, Options{Slope: 0.001, Units: US, Geometry: subdivide.Options{NoExtend: true}}, []string{
+			"to the section's top, 10 ft (no stage above its ends is computed); the discharge is more than the section carries at its top (785.2 ft3/s)"}},
+		{"shape continued", trap, 1e7, Options{Slope: 0.001, Units: SI}, []string{"and on above it, the shape continued, up to", "with the shape continued"}},
+	} {
+		_, err := NormalStages(c.g, c.q, c.opt)
+		if !errors.Is(err, ErrNoRoot) {
+			t.Fatalf("%s: %v, want ErrNoRoot", c.name, err)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: %q lacks %q", c.name, err, w)
+			}
 		}
 	}
 }

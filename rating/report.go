@@ -394,7 +394,7 @@ func (s StageSpec) raised(lo, hi float64, rows int) []string {
 	if !s.finer(step) {
 		return nil
 	}
-	return []string{fmt.Sprintf("the stage range from %g to %g is too short for about %d rows: its round step, %g, is finer than %g, "+
+	return []string{fmt.Sprintf("the stage range from %g to %g is too short for about %d rows: its round step, %.4g, is finer than %g, "+
 		"the finest step its table writes apart, so its stages are laid out %g apart instead (%d rows)",
 		lo, hi, MaxDefaultRows, step, s.MinStep, s.MinStep, rows)}
 }

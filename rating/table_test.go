@@ -248,3 +248,17 @@ func TestStagesMinStep(t *testing.T) {
 		})
 	}
 }
+
+// TestStagesRaisedWording: the warning of a raised step writes the round
+// step to four significant digits, never its float64 expansion. The round
+// step of a 0.00012 range is NiceStep(0.00012/50) = 5e-6 (by hand).
+func TestStagesRaisedWording(t *testing.T) {
+	g, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 10.00012, 1, 10, 2, 10.00012), N: []float64{0.03, 0.03}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, warn, err := rating.StageSpec{MinStep: 1e-4}.StagesWarn(g)
+	if err != nil || len(warn) != 1 || !strings.Contains(warn[0], "its round step, 5e-06, is finer than 0.0001") {
+		t.Errorf("warnings %q (%v)", warn, err)
+	}
+}

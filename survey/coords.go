@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/gonum/mat"
@@ -288,6 +289,7 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	if err != nil {
 		return err
 	}
+	zeroRoundOff(pr.Offsets, st)
 	pr.Tolerance = opt.OffsetTolerance
 	if !(pr.Tolerance > 0) {
 		pr.Tolerance = DefaultOffsetSI
@@ -325,6 +327,25 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	sv.Projection = pr
 	r.offsetWarnings(recs, opt.Feet)
 	return nil
+}
+
+// offsetRoundOff is the fraction of the line's length below which an
+// offset is round-off of the projection, not a distance: points exactly on
+// the line come out some 1e-16 of their coordinates off it.
+const offsetRoundOff = 1e-9
+
+// zeroRoundOff sets to 0 each offset smaller than offsetRoundOff of the
+// line's length (the span of stations).
+func zeroRoundOff(offsets, stations []float64) {
+	if len(stations) == 0 {
+		return
+	}
+	span := slices.Max(stations) - slices.Min(stations)
+	for i, d := range offsets {
+		if math.Abs(d) < offsetRoundOff*span {
+			offsets[i] = 0
+		}
+	}
 }
 
 // reverseN turns the n column of a survey taken right to left into n of

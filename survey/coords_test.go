@@ -338,3 +338,27 @@ func TestCoordinateSurveyPinsDisagree(t *testing.T) {
 		}
 	}
 }
+
+// TestCoordinateSurveyOnTheLine: points exactly on a line at grid
+// azimuth 36.87° (a 3-4-5 triangle, so stations 0, 5, 25, 30 by hand)
+// have offsets of round-off size from the projection; below 1e-9 of the
+// line's length they are 0, and the warning says the farthest lies 0 off.
+func TestCoordinateSurveyOnTheLine(t *testing.T) {
+	text := "easting (ft),northing (ft),elevation (ft),n\n1000,5000,10,0.035\n1003,5004,0,0.035\n1015,5020,0,0.035\n1018,5024,10,0.035\n"
+	sv, err := ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, want := range []float64{0, 5, 25, 30} {
+		if p := sv.Section.Points[k]; !closeRel(p.Station, want, 1e-9, 1e-9) || sv.Projection.Offsets[k] != 0 {
+			t.Errorf("point %d: station %.12g offset %g, want %g and 0", k, p.Station, sv.Projection.Offsets[k], want)
+		}
+	}
+	found := false
+	for _, w := range sv.Warnings {
+		found = found || strings.Contains(w, "the farthest point lies 0 ft off the line")
+	}
+	if !found {
+		t.Errorf("warnings %q", sv.Warnings)
+	}
+}

@@ -92,7 +92,7 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if req.Shape != "" || req.Path == "" {
 		return prepareShape(req)
 	}
-	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates})
+	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates, NGiven: req.N != nil})
 	if err != nil {
 		return nil, err
 	}

@@ -2,8 +2,12 @@ package survey
 
 import (
 	"errors"
+	"math"
+	"os"
+	"path/filepath"
 	"testing"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -54,5 +58,37 @@ func TestShapeN(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// TestBlankNColumnWithN: an n column whose every cell is blank is refused
+// (ErrEmptyNColumn at the header's n cell) unless n is given on the
+// command line, which replaces the column's; then the section takes that
+// n, and a trapezoid (bottom 10 ft, sides 2:1) gets Manning's conveyance
+// K = (1.486/n)·A·R^(2/3) at a depth of 2 ft: A = 10·2 + 2·2² = 28 ft²,
+// P = 10 + 2·2·√5 ft (Chow 1959, table 2-1, trapezoid; hand evaluation).
+func TestBlankNColumnWithN(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "trap.csv")
+	if err := os.WriteFile(path, []byte("station (ft),elevation (ft),n\n0,8\n16,0\n26,0\n42,8\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err := Prepare(SectionRequest{Path: path})
+	var pe *ParseError
+	if !errors.Is(err, ErrEmptyNColumn) || !errors.As(err, &pe) || pe.Row != 1 || pe.Column != 3 {
+		t.Errorf("without --n: %v, want ErrEmptyNColumn at row 1, column 3", err)
+	}
+	p, err := Prepare(SectionRequest{Path: path, N: []float64{0.035}})
+	if err != nil {
+		t.Fatalf("with --n: %v", err)
+	}
+	const n, tol = 0.035, 1e-9
+	a, wp := 28.0, 10+4*math.Sqrt(5)
+	want := 1.486 / n * a * math.Pow(a/wp, 2.0/3)
+	tb, err := rating.Compute(p.Geometry, []float64{2}, rating.Options{Slope: 0.002, Units: p.Units})
+	if err != nil || len(tb.Rows) != 1 {
+		t.Fatalf("rating: %v", err)
+	}
+	if k := tb.Rows[0].Conveyance; p.Units != rating.US || math.Abs(k-want) > tol*want {
+		t.Errorf("conveyance at 2 ft: %g (%s units), want %g", k, p.Units, want)
 	}
 }

@@ -48,6 +48,10 @@ type SectionOptions struct {
 	// Coordinates say how a survey of eastings and northings becomes
 	// stations (see CoordinateOptions).
 	Coordinates CoordinateOptions
+	// NGiven says that n is given elsewhere (--n), replacing the n
+	// column's: an n column with every cell blank is then accepted and
+	// left unused, not refused with ErrEmptyNColumn.
+	NGiven bool
 }
 
 // HighN is the Manning's n above which a value is warned about: higher
@@ -119,7 +123,8 @@ var (
 // reported, each naming its row and column: a blank, unreadable or
 // implausible station, elevation or n (see MaxCoordinate, MaxElevation,
 // MinN, MaxN), a station less than the one before, a blank n on the first
-// point of an n column, a count of bank marks other than two.
+// point of an n column, an n column with every cell blank (unless
+// opt.NGiven), a count of bank marks other than two.
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
 	if err != nil {
@@ -139,6 +144,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if err := r.shape(); err != nil {
 		return r.sv, err
 	}
+	r.nGiven = opt.NGiven
 	if err := r.roughness(); err != nil {
 		return r.sv, err
 	}
@@ -167,6 +173,8 @@ type sectionReader struct {
 	cx, cy      int
 	east, north []float64
 	records     []Record
+	// nGiven: n comes from elsewhere, so an all-blank n column is unused.
+	nGiven bool
 }
 
 // newSectionReader finds the columns and the units of a survey table.
@@ -285,6 +293,9 @@ func (r *sectionReader) roughness() error {
 	empty := true
 	for _, n := range r.ns {
 		empty = empty && math.IsNaN(n)
+	}
+	if empty && r.nGiven {
+		return nil
 	}
 	if empty {
 		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: r.cn + 1, Name: t.Header[r.cn], Err: ErrEmptyNColumn}

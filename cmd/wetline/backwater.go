@@ -52,6 +52,7 @@ func (f *backwaterFlags) register(fs *flagSet) {
 	fs.StringVar(&f.boundary, "boundary", "", "downstream boundary at the last section, required: normal:S (normal depth at friction slope S), "+
 		"critical (critical depth), stage:H (a known water-surface elevation) or rating:FILE (a stage–discharge table, such as rate writes, "+
 		"in the reach's datum)")
+	fs.inputAfter("rating:", "boundary")
 	fs.StringVar(&f.at, "at", "", "id of the section whose stages make the rating (default: the upstream section)")
 	fs.Float64Var(&f.expansion, "expansion", math.NaN(), "eddy-loss coefficient where the flow expands (velocity head falling downstream), 0 to 1 (default 0.5)")
 	fs.Float64Var(&f.contraction, "contraction", 0, "eddy-loss coefficient where the flow contracts, 0 to 1")

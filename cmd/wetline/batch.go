@@ -1,9 +1,11 @@
 package main
 
 import (
+	"bufio"
 	"context"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"strings"
 	"time"
@@ -16,9 +18,11 @@ import (
 
 // runBatch rates several surveys: one table per section in the -o folder
 // with an index (the folder replaced whole when the run succeeds), or one
-// long table with --long. A section that fails is listed with its error
-// and does not stop the others; the run then ends with an error saying
-// how many failed.
+// long table with --long. A section that fails does not stop the others:
+// every section is rated, and when any failed nothing is written (no
+// folder, no long table, an earlier output left as it was), every failed
+// section is listed on standard error with its error, and the run ends
+// with an error saying how many failed.
 func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	for _, name := range []string{"plots", "calibrate", "gaugings-sheet", "datum", "channel-only", "shape"} {
 		if fs.Changed(name) {
@@ -71,6 +75,13 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	if err != nil {
 		return err
 	}
+	if sum.Failed > 0 {
+		// Nothing was committed: list every failure, as no index holds them.
+		if err := results.WriteBatchFailures(e.stderr, sum.Entries); err != nil {
+			return err
+		}
+		return fmt.Errorf("%w; nothing was written, so %s", sum.Err("above"), untouched(f))
+	}
 	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where, f.long); err != nil {
 		return err
 	}
@@ -81,20 +92,37 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	return sum.Err(note)
 }
 
+// untouched says which output a failed batch left as it was.
+func untouched(f *rateFlags) string {
+	if f.output == "" || f.output == "-" {
+		return "standard output holds no table"
+	}
+	return f.output + " is as it was before the run"
+}
+
 // writeBatch rates the jobs into the -o folder, or into one long table,
-// and commits the output; it says where the tables went.
+// and commits the output only when no section failed; it says where the
+// tables went. A long table for standard output is held in a temporary
+// file until the batch is known to have no failed section.
 func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs []batch.Job, opt batch.Options) (batch.Summary, string, error) {
 	var sum batch.Summary
 	var err error
+	commit := func() error {
+		if sum.Failed > 0 {
+			e.files.Discard()
+			return nil
+		}
+		return e.files.Commit()
+	}
 	switch {
 	case !f.long:
 		sum, err = batch.Folder(ctx, e.files, f.output, format, jobs, opt)
 		if err == nil {
-			err = e.files.Commit()
+			err = commit()
 		}
 		return sum, fmt.Sprintf("%s (index: %s)", f.output, filepath.Join(f.output, batch.IndexFile)), err
 	case f.output == "" || f.output == "-":
-		sum, err = batch.Long(ctx, e.stdout, jobs, opt)
+		sum, err = longToStdout(ctx, e.stdout, jobs, opt)
 		return sum, "one table on standard output", err
 	}
 	err = e.files.Write(f.output, func(w io.Writer) error {
@@ -103,9 +131,35 @@ func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs [
 		return werr
 	})
 	if err == nil {
-		err = e.files.Commit()
+		err = commit()
 	}
 	return sum, "one table on " + f.output, err
+}
+
+// longToStdout writes the long table into a temporary file and copies it
+// to stdout only when no section failed.
+func longToStdout(ctx context.Context, stdout io.Writer, jobs []batch.Job, opt batch.Options) (batch.Summary, error) {
+	tmp, err := os.CreateTemp("", "wetline-long-*.csv")
+	if err != nil {
+		return batch.Summary{}, err
+	}
+	defer func() {
+		tmp.Close()
+		os.Remove(tmp.Name())
+	}()
+	bw := bufio.NewWriter(tmp)
+	sum, err := batch.Long(ctx, bw, jobs, opt)
+	if err == nil {
+		err = bw.Flush()
+	}
+	if err != nil || sum.Failed > 0 {
+		return sum, err
+	}
+	if _, err := tmp.Seek(0, io.SeekStart); err != nil {
+		return sum, err
+	}
+	_, err = io.Copy(stdout, tmp)
+	return sum, err
 }
 
 // progress shows "rating: k of n sections" on standard error when it is

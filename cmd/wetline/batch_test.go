@@ -71,26 +71,21 @@ func batchInputs(t *testing.T, names ...string) string {
 }
 
 // TestBatchFolder rates a folder: one table per section, an index in input
-// order with bankfull discharge, a bad section listed with its error, and
-// exit status 1 with a summary.
+// order with bankfull discharge.
 func TestBatchFolder(t *testing.T) {
 	t.Parallel()
-	in := batchInputs(t, "a1", "b2", "bad", "c3")
+	in := batchInputs(t, "a1", "b2", "c3")
 	out := filepath.Join(t.TempDir(), "ratings")
 	var stdout, stderr bytes.Buffer
 	e := newEnv(&stdout, &stderr, commandTable())
-	err := runArgs(t, e, "rate", in, "--slope", "0.001", "-o", out)
-	if err == nil || !strings.Contains(err.Error(), "1 of 4 sections failed") {
-		t.Fatalf("err = %v, want a count of failed sections", err)
-	}
-	if exitStatus(err, &bytes.Buffer{}) != 1 {
-		t.Errorf("exit status not 1")
+	if err := runArgs(t, e, "rate", in, "--slope", "0.001", "-o", out); err != nil {
+		t.Fatal(err)
 	}
 	idx := readCSV(t, filepath.Join(out, "index.csv"))
-	if len(idx) != 5 {
-		t.Fatalf("index has %d lines, want 5:\n%v", len(idx), idx)
+	if len(idx) != 4 {
+		t.Fatalf("index has %d lines, want 4:\n%v", len(idx), idx)
 	}
-	for i, want := range []string{"a1", "b2", "bad", "c3"} {
+	for i, want := range []string{"a1", "b2", "c3"} {
 		if idx[i+1][0] != want {
 			t.Errorf("index row %d is %q, want %q (input order)", i+1, idx[i+1][0], want)
 		}
@@ -103,9 +98,6 @@ func TestBatchFolder(t *testing.T) {
 		}
 		t.Fatalf("no column %s", name)
 		return -1
-	}
-	if e := idx[3][col("error")]; !strings.Contains(e, "bad.csv:5:2") {
-		t.Errorf("bad section's error %q does not name file, row and column", e)
 	}
 	// Bankfull is the lower bank top, elevation 3 (+ the shift of 1 for b2).
 	if got := idx[2][col("bankfull_stage")]; got != "4" {
@@ -120,11 +112,71 @@ func TestBatchFolder(t *testing.T) {
 			t.Errorf("%s: not a rating table: %v", n, recs[:1])
 		}
 	}
-	if _, err := os.Stat(filepath.Join(out, "bad.csv")); !os.IsNotExist(err) {
-		t.Errorf("a table was written for the bad section")
-	}
-	if !strings.Contains(stderr.String(), "failed: bad:") || !strings.Contains(stderr.String(), "caution:") {
+	if !strings.Contains(stderr.String(), "rated 3 of 3 sections") || !strings.Contains(stderr.String(), "caution:") {
 		t.Errorf("stderr:\n%s", stderr.String())
+	}
+}
+
+// TestBatchFailedWritesNothing rates a folder, makes one survey bad and
+// rates it again into the same places: the run exits 1, lists every
+// failed section on standard error with file, row and column, and leaves
+// the earlier folder and long table byte for byte as they were (a run
+// into a new folder creates none).
+func TestBatchFailedWritesNothing(t *testing.T) {
+	t.Parallel()
+	in := batchInputs(t, "a1", "b2", "c3")
+	tmp := t.TempDir()
+	out, long, fresh := filepath.Join(tmp, "ratings"), filepath.Join(tmp, "long.csv"), filepath.Join(tmp, "new")
+	for _, args := range [][]string{{"-o", out}, {"--long", "-o", long}} {
+		if err := runArgs(t, newEnv(&bytes.Buffer{}, &bytes.Buffer{}, commandTable()), append([]string{"rate", in, "--slope", "0.001"}, args...)...); err != nil {
+			t.Fatal(err)
+		}
+	}
+	before := map[string][]byte{}
+	for _, p := range []string{"ratings/a1.csv", "ratings/b2.csv", "ratings/c3.csv", "ratings/index.csv", "long.csv"} {
+		b, err := os.ReadFile(filepath.Join(tmp, p))
+		if err != nil {
+			t.Fatal(err)
+		}
+		before[p] = b
+	}
+	for _, n := range []string{"b2", "c3"} { // two bad sections, both reported
+		p := filepath.Join(in, n+".csv")
+		b, _ := os.ReadFile(p)
+		if err := os.WriteFile(p, []byte(strings.Replace(string(b), "\n8,", "\n8,x", 1)), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, args := range [][]string{{"-o", out}, {"--long", "-o", long}, {"-o", fresh}, {"--long"}} {
+		var stdout, stderr bytes.Buffer
+		err := runArgs(t, newEnv(&stdout, &stderr, commandTable()), append([]string{"rate", in, "--slope", "0.001"}, args...)...)
+		if err == nil || !strings.Contains(err.Error(), "2 of 3 sections failed") || !strings.Contains(err.Error(), "nothing was written") {
+			t.Errorf("%v: err = %v, want a count of failed sections and nothing written", args, err)
+		}
+		if exitStatus(err, &bytes.Buffer{}) != 1 {
+			t.Errorf("%v: exit status not 1", args)
+		}
+		for _, n := range []string{"b2", "c3"} {
+			if want := "failed: " + n + ": " + filepath.Join(in, n+".csv") + ":5:2: "; !strings.Contains(stderr.String(), want) {
+				t.Errorf("%v: stderr lacks %q:\n%s", args, want, stderr.String())
+			}
+		}
+		if stdout.Len() != 0 {
+			t.Errorf("%v: standard output holds %q", args, stdout.String())
+		}
+	}
+	for p, want := range before {
+		got, err := os.ReadFile(filepath.Join(tmp, p))
+		if err != nil || !bytes.Equal(got, want) {
+			t.Errorf("%s changed by the failed run (err %v)", p, err)
+		}
+	}
+	if _, err := os.Stat(fresh); !os.IsNotExist(err) {
+		t.Errorf("a failed run created %s (%v)", fresh, err)
+	}
+	ents, _ := os.ReadDir(tmp)
+	if len(ents) != 2 {
+		t.Errorf("left in the output folder: %v", ents)
 	}
 }
 
@@ -278,7 +330,7 @@ func TestDemoBatch(t *testing.T) {
 }
 
 // TestBatchMissingFile lists a survey that cannot be opened as a failed
-// section; the others are still rated.
+// section; the others are still rated, and no table is written.
 func TestBatchMissingFile(t *testing.T) {
 	t.Parallel()
 	in := batchInputs(t, "a")
@@ -288,8 +340,7 @@ func TestBatchMissingFile(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), "1 of 2 sections failed") {
 		t.Fatalf("err = %v", err)
 	}
-	if !strings.Contains(stderr.String(), "failed: gone:") || !strings.HasPrefix(stdout.String(), "section,") ||
-		!strings.Contains(stdout.String(), "\na,") {
+	if !strings.Contains(stderr.String(), "failed: gone:") || stdout.Len() != 0 {
 		t.Errorf("stdout:\n%s\nstderr:\n%s", stdout.String(), stderr.String())
 	}
 }
@@ -387,5 +438,49 @@ func TestRateDefaultStepRaised(t *testing.T) {
 	stagesApart(t, one)
 	if !strings.Contains(errs, "warning: the stage range from 10 to 10.002 is too short for about 50 rows") || !strings.Contains(errs, note) {
 		t.Errorf("single run: no warning of the raised step:\n%s", errs)
+	}
+}
+
+// TestRateNoDepth: with default stages, a flat section (every point at one
+// elevation) and one shallower than the 0.0001 its table writes stages
+// apart are faults of the survey: exit 1, naming the file and that the
+// section has no depth to rate, alone or in a batch. Asked for with
+// --from/--to, the same too-narrow range stays a command-line mistake.
+func TestRateNoDepth(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	flat := filepath.Join(dir, "flat.csv")
+	shallow := filepath.Join(dir, "shallow.csv")
+	for p, text := range map[string]string{
+		flat:    "station,elevation,n\n0,10,0.03\n1,10,0.03\n2,10,0.03\n",
+		shallow: "station,elevation,n\n0,10.00005,0.03\n1,10,0.03\n2,10.00005,0.03\n",
+	} {
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, tc := range []struct {
+		args []string
+		code int
+		want []string
+	}{
+		{[]string{flat}, 1, []string{"wetline: " + flat + ": the section has no depth to rate"}},
+		{[]string{shallow}, 1, []string{"wetline: " + shallow + ": the section has no depth to rate", "5e-05 below"}},
+		{[]string{flat, shallow, "--long"}, 1, []string{"failed: flat: " + flat + ": the section has no depth to rate",
+			"failed: shallow: " + shallow + ": the section has no depth to rate"}},
+		{[]string{shallow, "--from", "10", "--to", "10.00005"}, 2, []string{"give a wider --from/--to range"}},
+	} {
+		_, errs, code := runCLI(t, append([]string{"rate", "--slope", "0.001"}, tc.args...)...)
+		if code != tc.code {
+			t.Errorf("%v: exit %d, want %d:\n%s", tc.args, code, tc.code, errs)
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(errs, w) {
+				t.Errorf("%v: stderr lacks %q:\n%s", tc.args, w, errs)
+			}
+		}
+		if tc.code == 1 && strings.Contains(errs, "--from/--to") {
+			t.Errorf("%v: a survey fault blamed on a range flag:\n%s", tc.args, errs)
+		}
 	}
 }

@@ -54,8 +54,9 @@
 // or not at all, and never over an input file.
 //
 // Exit status: 0 on success (and help); 1 when an input or a file cannot
-// be used, with one line per problem naming file, row and column, and
-// nothing written; 2 for a mistake on the command line, or a
+// be used (in a batch, the survey of any one section), with one line per
+// problem naming file, row and column, and nothing written; 2 for a
+// mistake on the command line (standard input named twice among them), or a
 // WETLINE_MAX_* variable that is not a whole number above zero; 128+N when
 // interrupted by signal N, leaving no partial file.
 //

@@ -100,6 +100,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the rating figure with the gaugings and both bands (PNG) into this folder")
 	fs.output(outputFile, "output")
+	fs.input("section", "hydraulic-rating", "control-section")
 	fs.output(outputFolder, "plots")
 }
 

@@ -57,7 +57,63 @@ func (fs *flagSet) parse(e *env, args []string) error {
 	if bad != nil {
 		return bad
 	}
+	if err := fs.oneStdin(); err != nil {
+		return err
+	}
 	return fs.distinctOutputs()
+}
+
+// inputKey is the flag annotation marking a flag that names an input file.
+const inputKey = "wetline/input"
+
+// input marks the flags names as naming input files, which may be "-" for
+// standard input (a list flag's values may be FILE@TIME): parse refuses
+// standard input named twice (oneStdin).
+func (fs *flagSet) input(names ...string) { fs.annotate(inputKey, "", names...) }
+
+// inputAfter marks the flags names as naming an input file after prefix
+// (as --boundary rating:FILE), for oneStdin.
+func (fs *flagSet) inputAfter(prefix string, names ...string) {
+	fs.annotate(inputKey, prefix, names...)
+}
+
+// oneStdin refuses, as a usage error naming both places, standard input
+// (-) named twice among the arguments (every one an input, or a spec
+// that is never "-") and the input flags (marked with input): it can be
+// read only once.
+func (fs *flagSet) oneStdin() error {
+	var places []string
+	for i, a := range fs.Args() {
+		if a == "-" {
+			places = append(places, fmt.Sprintf("argument %d", i+1))
+		}
+	}
+	fs.VisitAll(func(f *pflag.Flag) {
+		if len(f.Annotations[inputKey]) == 0 || !f.Changed {
+			return
+		}
+		values := []string{f.Value.String()}
+		if sv, ok := f.Value.(pflag.SliceValue); ok {
+			values = sv.GetSlice()
+		}
+		prefix := f.Annotations[inputKey][0]
+		for _, v := range values {
+			if prefix != "" {
+				var ok bool
+				if v, ok = strings.CutPrefix(v, prefix); !ok {
+					continue
+				}
+			}
+			if v == "-" || strings.HasPrefix(v, "-@") {
+				places = append(places, flagWords(f)+" "+prefix+v)
+			}
+		}
+	})
+	if len(places) > 1 {
+		return usagef("%s: standard input (-) is named twice, as %s and as %s: it can be read only once; save one of the inputs to a file",
+			fs.Name(), places[0], places[1])
+	}
+	return nil
 }
 
 // Kinds of path an output flag names (see output).
@@ -149,6 +205,8 @@ func (fs *flagSet) help(w io.Writer) error {
 		case (f.DefValue == "0" || f.DefValue == "0s") && (!isNumber(f) || strings.Contains(f.Usage, "default") || f.Annotations[notGivenKey] != nil):
 			// a zero standing for a default said in words, for "not given",
 			// or of a value that is no number (an offset: UTC)
+		case f.Value.Type() == "duration":
+			def = fmt.Sprintf(" (default %s)", shortDuration(f.DefValue))
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
@@ -174,6 +232,18 @@ func (fs *flagSet) notGiven(names ...string) { fs.annotate(notGivenKey, "true", 
 // isNumber reports whether a flag takes a number or a duration.
 func isNumber(f *pflag.Flag) bool {
 	return argName(f.Value.Type()) == "NUM" || f.Value.Type() == "duration"
+}
+
+// shortDuration writes a duration as time.Duration.String does without its
+// zero trailing units: 2h0m0s is 2h, 1h30m0s 1h30m, 10m0s 10m.
+func shortDuration(s string) string {
+	if strings.HasSuffix(s, "m0s") {
+		s = strings.TrimSuffix(s, "0s")
+	}
+	if strings.HasSuffix(s, "h0m") {
+		s = strings.TrimSuffix(s, "0m")
+	}
+	return s
 }
 
 // argName names a flag's argument in help by its type.

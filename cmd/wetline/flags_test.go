@@ -163,3 +163,21 @@ func TestOutputIsAFigure(t *testing.T) {
 		t.Errorf("a report beside the figures: exit %d: %s", code, errs)
 	}
 }
+
+// TestHelpDurations: help writes a duration default without its zero
+// trailing units (2h, not 2h0m0s); a duration's own non-zero units stay.
+func TestHelpDurations(t *testing.T) {
+	t.Parallel()
+	for _, c := range [][2]string{{"2h0m0s", "2h"}, {"12h0m0s", "12h"}, {"1h30m0s", "1h30m"}, {"10m0s", "10m"},
+		{"1h0m5s", "1h0m5s"}, {"45s", "45s"}, {"0s", "0s"}, {"1.5s", "1.5s"}} {
+		if got := shortDuration(c[0]); got != c[1] {
+			t.Errorf("shortDuration(%q) = %q, want %q", c[0], got, c[1])
+		}
+	}
+	for cmd, want := range map[string]string{"record": "(default 2h)\n", "shifts": "(default 12h)\n"} {
+		out, _, code := runCLI(t, cmd, "--help")
+		if code != 0 || !strings.Contains(out, want) || strings.Contains(out, "0m0s") {
+			t.Errorf("%s --help (exit %d) lacks %q:\n%s", cmd, code, want, out)
+		}
+	}
+}

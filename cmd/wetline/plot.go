@@ -27,6 +27,7 @@ type plotFlags struct {
 func (f *plotFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.section, "section", "", "surveyed cross-section of the table, for the section figure")
+	fs.input("section")
 	fs.Lookup("sheet").Usage = "workbook sheet of the survey when --section is a workbook, else of a workbook TABLE (default: the first visible sheet)"
 	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first visible sheet)")
 	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts)")

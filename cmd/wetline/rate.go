@@ -75,14 +75,12 @@ func (f *rateFlags) check(fs *flagSet) error {
 	return checkSlope("rate", f.slope)
 }
 
-// stagesApart refuses stages, laid out for a table, that the table would
-// write alike (results.CheckStagesApart), naming the flag that asked for
-// them: a default step over a narrow --from/--to range can be as fine.
-func stagesApart(fs *flagSet, stages []float64) error {
-	err := results.CheckStagesApart(stages)
+// stagesApart is the usage error for stages, laid out for a table, that
+// the table would write alike (err wraps results.ErrStagesAlike), naming
+// the flag that asked for them: a default step over a narrow --from/--to
+// range can be as fine.
+func stagesApart(fs *flagSet, err error) error {
 	switch {
-	case err == nil:
-		return nil
 	case fs.Changed("stages"):
 		return usageError{err: fmt.Errorf("rate: --stages: %w", err)}
 	case fs.Changed("step"):
@@ -168,19 +166,21 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err := f.calib.apply(fs, p, opt); err != nil {
 		return rating.RatingReport{}, err
 	}
-	stages, stageWarnings, err := f.stageSpec(fs).StagesWarn(p.Geometry)
-	if err != nil && fs.Changed("step") {
-		err = tooFineStep("rate", f.step, p.Units, err)
-	}
-	var ue usageError
-	if errors.As(err, &ue) {
-		return rating.RatingReport{}, err
-	}
-	if err != nil {
+	stages, stageWarnings, err := results.TableStages(f.stageSpec(fs), p.Geometry, p.Source())
+	switch {
+	case err == nil:
+	case errors.Is(err, results.ErrNoDepth):
+		return rating.RatingReport{}, err // the survey's fault: exit 1
+	case errors.Is(err, results.ErrStagesAlike):
+		return rating.RatingReport{}, stagesApart(fs, err)
+	default:
+		if fs.Changed("step") {
+			err = tooFineStep("rate", f.step, p.Units, err)
+		}
+		if ue := (usageError{}); errors.As(err, &ue) {
+			return rating.RatingReport{}, err
+		}
 		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
-	}
-	if err := stagesApart(fs, stages); err != nil {
-		return rating.RatingReport{}, err
 	}
 	if lookup { // the workbook: check its sheets hold the table before computing
 		if err := results.CheckRatingWorkbook(len(stages), len(p.Geometry.Subsections())); err != nil {

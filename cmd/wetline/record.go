@@ -56,6 +56,7 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
 	fs.StringVar(&hf.shifts, "shifts", "", "shift diagrams FILE (time, stage, shift columns; optional taper and abrupt)")
 	fs.StringVar(&hf.shiftsSheet, "shifts-sheet", "", "workbook sheet of the shift diagrams (default: the first visible sheet)")
+	fs.input("rating", "shifts")
 	fs.Var(&hf.offset, "utc-offset", "offset ±HH:MM of times written without one, in every file read; days and times are reported in it (default UTC)")
 	fs.StringVar(&hf.units, "units", "si", "unit system that labels the values: si (m, m3/s) or us (ft, ft3/s); nothing is converted "+
 		"(default: the units written in the rating tables' or the gaugings' headers, else si)")
@@ -364,6 +365,7 @@ func (f *recordFlags) register(fs *flagSet) {
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the hydrograph figure (PNG) into this folder")
 	fs.output(outputFile, "output")
+	fs.input("gaugings")
 	fs.output(outputFolder, "plots")
 	fs.StringVar(&f.site, "site", "", siteUsage)
 }

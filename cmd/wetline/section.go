@@ -215,6 +215,7 @@ func (c *calibrateFlags) register(fs *flagSet) {
 	fs.StringVar(&c.sheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
 	fs.Float64Var(&c.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: stages (and gaugings) are then gauge heights, elevation = gauge height + DATUM")
 	fs.notGiven("datum")
+	fs.input("calibrate")
 	fs.BoolVar(&c.channelOnly, "channel-only", false, "with --calibrate: scale only the main channel's n")
 }
 

@@ -56,3 +56,37 @@ func TestStandardInputAndOutput(t *testing.T) {
 		t.Errorf("workbook on standard input: exit %d %s", code, errs)
 	}
 }
+
+// TestStdinNamedOnce: standard input named twice, in any command reading
+// several inputs, is a command-line mistake (exit 2) naming both places,
+// refused before anything is read; named once it is read.
+func TestStdinNamedOnce(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		args   []string
+		places string
+	}{
+		{[]string{"compare", "-", "-"}, "as argument 1 and as argument 2"},
+		{[]string{"rate", "-", "-", "--slope", "0.001", "--long"}, "as argument 1 and as argument 2"},
+		{[]string{"rate", "-", "--calibrate", "-", "--slope", "0.001"}, "as argument 1 and as --calibrate -"},
+		{[]string{"fit", "-", "--section", "-", "--slope", "0.001"}, "as argument 1 and as --section -"},
+		{[]string{"fit", "g.csv", "--section", "-", "--control-section", "-", "--slope", "0.001"}, "as --section - and as --control-section -"},
+		{[]string{"shifts", "-", "--rating", "-"}, "as argument 1 and as --rating -"},
+		{[]string{"record", "s.csv", "--rating", "-", "--rating", "-@2020-01-01"}, "as --rating - and as --rating -@2020-01-01"},
+		{[]string{"record", "-", "--rating", "r.csv", "--gaugings", "-"}, "as argument 1 and as --gaugings -"},
+		{[]string{"plot", "-", "--section", "-"}, "as argument 1 and as --section -"},
+		{[]string{"backwater", "-", "--boundary", "rating:-"}, "as argument 1 and as --boundary rating:-"},
+	} {
+		_, errs, code := runCLI(t, tc.args...)
+		if code != 2 || !strings.Contains(errs, "standard input (-) is named twice, "+tc.places) {
+			t.Errorf("%v: exit %d:\n%s", tc.args, code, errs)
+		}
+	}
+	data, err := os.ReadFile(demoSurveyPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, errs, code := runProgram(t, data, "rate", "-", "--slope", "0.001"); code != 0 {
+		t.Errorf("one - refused: exit %d:\n%s", code, errs)
+	}
+}

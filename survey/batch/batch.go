@@ -2,7 +2,8 @@
 // of a folder, every survey sheet of a workbook, or a list of files. The
 // sections are rated on a pool of workers and their results come back in
 // input order; a section that fails is listed with its error and does not
-// stop the others.
+// stop the others, so that every failure is found in one run. The
+// command commits a batch's output only when no section failed.
 //
 // A survey with a header and no rows (a blank sheet of the field
 // workbook) is skipped with a note, not failed.
@@ -262,7 +263,8 @@ const SkippedNote = "a header and no survey rows"
 // cross-section sheets until the crew fills them. A section whose stages
 // its table would write alike (results.ErrStagesAlike: a range shorter
 // than results.LengthResolution, or a given step or list that fine)
-// fails.
+// fails; with default stages it fails as one with no depth to rate
+// (results.ErrNoDepth), as one holding no water below its ends does.
 func Rate(j Job, opt Options) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
@@ -292,10 +294,7 @@ func Rate(j Job, opt Options) Result {
 	// a range shorter than that is refused, as a table of repeated stages.
 	spec := opt.Stages
 	spec.MinStep = math.Max(spec.MinStep, results.LengthResolution)
-	stages, stageWarnings, err := spec.StagesWarn(p.Geometry)
-	if err == nil {
-		err = results.CheckStagesApart(stages)
-	}
+	stages, stageWarnings, err := results.TableStages(spec, p.Geometry, p.Source())
 	if err != nil {
 		return fail(err)
 	}
@@ -424,8 +423,10 @@ func (s Summary) Err(where string) error {
 // Folder rates the jobs into a batch folder at dir, staged in files (the
 // folder replaces an earlier one only when files is committed): one table
 // per section in format "csv" or "json", and the index. Only the index
-// and the tables of sections that were rated are written; the index lists
-// every section, failed and skipped ones too.
+// and the tables of sections that were rated are staged; the index lists
+// every section, failed and skipped ones too. The caller commits files
+// only when the Summary counts no failed section, and discards them
+// otherwise, so a failed batch leaves an earlier folder as it was.
 func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	d, err := files.Folder(dir, IndexFile)

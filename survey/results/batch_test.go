@@ -152,3 +152,21 @@ func TestStageDecimalsShown(t *testing.T) {
 		}
 	}
 }
+
+// TestWriteBatchFailures lists every failed section, beyond MaxListed,
+// one line each, and no rated or skipped one.
+func TestWriteBatchFailures(t *testing.T) {
+	var entries []IndexEntry
+	for i := range MaxListed + 3 {
+		entries = append(entries, IndexEntry{Section: fmt.Sprintf("s%d", i), Err: "x.csv:5:2: not a number"})
+	}
+	entries = append(entries, IndexEntry{Section: "ok"}, IndexEntry{Section: "blank", Skipped: "blank"})
+	var b strings.Builder
+	if err := WriteBatchFailures(&b, entries); err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSuffix(b.String(), "\n"), "\n")
+	if len(lines) != MaxListed+3 || lines[0] != "failed: s0: x.csv:5:2: not a number" || strings.Contains(b.String(), "ok") {
+		t.Errorf("listed:\n%s", b.String())
+	}
+}

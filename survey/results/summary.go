@@ -198,6 +198,19 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings
 	return endSummary(bw, nil)
 }
 
+// WriteBatchFailures lists every failed section of a batch, one line
+// each ("failed: SECTION: ERROR", the error naming file, row and column
+// where it has them), for a batch that wrote nothing because some failed.
+func WriteBatchFailures(w io.Writer, entries []IndexEntry) error {
+	bw := bufio.NewWriter(w)
+	for _, en := range entries {
+		if en.Err != "" {
+			fmt.Fprintf(bw, "failed: %s: %s\n", en.Section, en.Err)
+		}
+	}
+	return bw.Flush()
+}
+
 // WriteWrote says that a file was written, with the caution.
 func WriteWrote(w io.Writer, path string, warnings []string) error {
 	bw := bufio.NewWriter(w)
