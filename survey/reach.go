@@ -538,18 +538,33 @@ func (r *Reach) Inputs() []string {
 // ResolveUnits returns the unit system of the reach: u when given (which
 // the reach table's headers must not contradict, UnitNote.Resolve), else
 // what the reach table's headers say, else what the first survey whose
-// headers name a unit says, else u. ReachSections then holds every survey
-// to it.
+// headers name a unit says, else u. Without given, every survey must
+// agree with it (UnitSource.Agree): a survey whose headers name no unit
+// is in si units, so it is refused in a reach in us units
+// (ErrUnitsUnnamed); a reach table naming no unit takes its surveys'.
+// ReachSections then holds every survey to it.
 func (r *Reach) ResolveUnits(u rating.Units, given bool) (rating.Units, error) {
-	if given || r.Units.Found {
+	if given {
 		return r.Units.Resolve(u, given)
 	}
+	src := UnitSource{File: Position(r.File, r.Sheet), Note: r.Units}
 	for _, sv := range r.Surveys {
+		if src.Note.Found {
+			break
+		}
 		if sv.Units.Found {
-			return sv.Units.Units, nil
+			src = UnitSource{File: Position(sv.File, sv.Sheet), Note: sv.Units}
 		}
 	}
-	return u, nil
+	if !src.Note.Found {
+		return u, nil
+	}
+	for _, sv := range r.Surveys {
+		if err := src.Agree(Position(sv.File, sv.Sheet), sv.Units); err != nil {
+			return u, err
+		}
+	}
+	return src.Units(), nil
 }
 
 // ReachSections compiles each section's survey for the reach methods in

@@ -607,30 +607,39 @@ func TestReachSlopeAreaWarnings(t *testing.T) {
 
 // When neither the caller nor the reach table's headers name a unit
 // system, the first survey whose headers name one decides (surveys in ft
-// read as US units, not refused as "si units were asked for"); a unit
-// asked for, or named by the reach table, still decides, and a survey
-// that disagrees is refused.
+// read as US units, not refused as "si units were asked for"), and a
+// survey naming no unit beside it is refused (ErrUnitsUnnamed: alone it
+// would be si units); a unit asked for, or named by the reach table,
+// still decides, and a survey that disagrees is refused.
 func TestReachResolveUnits(t *testing.T) {
 	ft := "station (ft),elevation (ft),n\n0,12,0.05\n10,9,0.05\n20,12,\n"
 	for _, tc := range []struct {
-		name, head string
-		u          rating.Units
-		given      bool
-		want       rating.Units
-		err        bool
+		name, head, a string
+		u             rating.Units
+		given         bool
+		want          rating.Units
+		resolveErr    error // of ResolveUnits
+		err           bool  // of ReachSections
 	}{
-		{"surveys decide", "section,survey,distance,ws_left,ws_right", rating.SI, false, rating.US, false},
-		{"asked for", "section,survey,distance,ws_left,ws_right", rating.SI, true, rating.SI, true},
-		{"table decides", "section,survey,distance (m),ws_left,ws_right", rating.SI, false, rating.SI, true},
+		{"surveys decide", "section,survey,distance,ws_left,ws_right", ft, rating.SI, false, rating.US, nil, false},
+		{"a survey naming no unit beside feet", "section,survey,distance,ws_left,ws_right", reachSurveyCSV, rating.SI, false, rating.SI, ErrUnitsUnnamed, false},
+		{"asked for", "section,survey,distance,ws_left,ws_right", reachSurveyCSV, rating.SI, true, rating.SI, nil, true},
+		{"table decides", "section,survey,distance (m),ws_left,ws_right", reachSurveyCSV, rating.SI, false, rating.SI, ErrUnitsDisagree, false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := reachFiles(t, map[string]string{"reach.csv": tc.head + "\nA,a.csv,0,11,11\nB,b.csv,100,10.9,10.9\n",
-				"a.csv": reachSurveyCSV, "b.csv": ft})
+				"a.csv": tc.a, "b.csv": ft})
 			r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
 			if err != nil {
 				t.Fatal(err)
 			}
 			u, err := r.ResolveUnits(tc.u, tc.given)
+			if tc.resolveErr != nil {
+				if !errors.Is(err, tc.resolveErr) {
+					t.Fatalf("ResolveUnits: %v, want %v", err, tc.resolveErr)
+				}
+				return
+			}
 			if err != nil || u != tc.want {
 				t.Fatalf("units %v, %v; want %v", u, err, tc.want)
 			}

@@ -16,6 +16,9 @@ var (
 	ErrMixedUnits = errors.New("columns are in different unit systems")
 	// ErrUnitsDisagree: the headers' unit system is not the one asked for.
 	ErrUnitsDisagree = errors.New("the header's unit is not the unit system asked for")
+	// ErrUnitsUnnamed: a file whose headers name no unit is read with one
+	// whose headers name us units, and no unit system was asked for.
+	ErrUnitsUnnamed = errors.New("without --units, a file whose headers name no unit is in si units")
 )
 
 // unitWords maps the units a header may name, lower case without spaces,
@@ -98,6 +101,47 @@ func (n UnitNote) Resolve(u rating.Units, given bool) (rating.Units, error) {
 		return u, &at
 	}
 	return n.Units, nil
+}
+
+// UnitSource is the input that sets the unit system of the inputs read
+// with it when no unit system was asked for: its file and what its headers
+// say. Naming no unit, it is in the default system, si, as a single input
+// would be read.
+type UnitSource struct {
+	File string
+	Note UnitNote
+}
+
+// Units returns the source's unit system: its headers', else si.
+func (s UnitSource) Units() rating.Units {
+	if s.Note.Found {
+		return s.Note.Units
+	}
+	return rating.SI
+}
+
+// Agree checks that the input file, whose headers say n, is in the
+// source's unit system when no unit system was asked for, each input
+// naming no unit being in si units. Units of the other system in both
+// headers are ErrUnitsDisagree at n's column; headers naming no unit
+// beside ones naming us units are ErrUnitsUnnamed (at n's column when n
+// names the units).
+func (s UnitSource) Agree(file string, n UnitNote) error {
+	u := s.Units()
+	switch {
+	case n.Found && n.Units == u, !n.Found && u == rating.SI:
+		return nil
+	case n.Found && s.Note.Found:
+		_, err := n.Resolve(u, true)
+		return fmt.Errorf("%w (%s units set by the headers of %s)", err, u, s.File)
+	case n.Found:
+		at := *n.At
+		at.Err = fmt.Errorf("%w: the header says %s (%s units) but the headers of %s name no unit: give --units %s if it is in %s units too",
+			ErrUnitsUnnamed, n.Text, n.Units, s.File, n.Units, n.Units)
+		return &at
+	}
+	return fmt.Errorf("%s: %w, but %s says %s (%s units) in column %q: give --units %s if %s is in %s units too",
+		file, ErrUnitsUnnamed, s.Note.At.Position(), s.Note.Text, u, s.Note.At.Name, u, file, u)
 }
 
 // UnitChoice is the unit system asked for, and whether it was asked for

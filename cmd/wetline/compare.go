@@ -261,6 +261,11 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 func (f *compareFlags) readSurveys(fs *flagSet, a, b string) ([2]*survey.Prepared, []string, []string, error) {
 	var ps [2]*survey.Prepared
 	var inputs, warnings []string
+	// The headers of A, then of B, set the units unless --units does.
+	d, err := decideUnits(f.units, fs.Changed("units"))
+	if err != nil {
+		return ps, nil, nil, err
+	}
 	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
 		choice, err := unitChoice(f.units, fs.Changed("units"))
 		if err != nil {
@@ -270,14 +275,11 @@ func (f *compareFlags) readSurveys(fs *flagSet, a, b string) ([2]*survey.Prepare
 		if err != nil {
 			return ps, nil, nil, err
 		}
-		req := survey.SectionRequest{Path: in.path, Sheet: in.sheet, Units: choice.Units, UnitsGiven: choice.Given, Coordinates: co}
-		if i == 1 {
-			req.Units, req.UnitsGiven = ps[0].Units, true
-		}
+		req := survey.SectionRequest{Path: in.path, Sheet: in.sheet, Coordinates: co}
 		if len(f.n) > 0 {
 			req.N = f.n
 		}
-		p, err := survey.Prepare(req)
+		p, err := d.prepareWith(req)
 		if err != nil {
 			if errors.Is(err, survey.ErrRequest) {
 				return ps, nil, nil, usageError{err: fmt.Errorf("compare: %w", err)}

@@ -174,7 +174,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	in := fitInputs{inputs: []string{path}, warnings: append([]string(nil), gs.Warnings...), site: gs.Site}
 	ropt := rating.Options{Slope: f.slope, Units: d.Units, Geometry: f.geometry()}
 	if f.section != "" {
-		p, err := f.prepareIn(f.section, d.Units)
+		p, err := f.prepareIn(f.section, &d)
 		if err != nil {
 			return nil, err
 		}
@@ -189,7 +189,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		opt.HydraulicTable = table
 	}
 	if f.controlSection != "" {
-		p, err := survey.Prepare(survey.SectionRequest{Path: f.controlSection, Units: d.Units, UnitsGiven: true})
+		p, err := d.prepareWith(survey.SectionRequest{Path: f.controlSection})
 		if err != nil {
 			return nil, err
 		}

@@ -47,6 +47,7 @@ func TestRatingTableUnitsFromHeaders(t *testing.T) {
 	feetStages := withHeader(t, dir, "stage-ft.csv", recStages, "time,stage (m)", "time,stage (ft)")
 	metresShifts := withHeader(t, dir, "shifts-m.csv", recShifts, "time,stage,shift", "time,stage (m),shift (m)")
 	mixedShifts := withHeader(t, dir, "shifts-mixed.csv", recShifts, "time,stage,shift", "time,stage (m),shift (ft)")
+	feetFitGaugings := withHeader(t, dir, "fit-g-ft.csv", fitDemoGaugings, "time,gauge_height,discharge", "time,gauge_height (ft),discharge (ft3/s)")
 	for _, c := range []struct {
 		name      string
 		args      []string
@@ -54,9 +55,9 @@ func TestRatingTableUnitsFromHeaders(t *testing.T) {
 		siRefused string // the position named when --units si is given
 	}{
 		{"compare", []string{"compare", feetA, feetB, "--format", "json"}, `"discharge": "ft3/s"`, "a-ft.csv:2:1: stage (ft)"},
-		{"fit", []string{"fit", fitDemoGaugings, "--hydraulic-rating", feetTable, "--datum", "100", "--compare-only"}, "us units", "xs1-ft.csv:1:1: stage (ft)"},
+		{"fit", []string{"fit", feetFitGaugings, "--hydraulic-rating", feetTable, "--datum", "100", "--compare-only"}, "us units", "fit-g-ft.csv:3:2: gauge_height (ft)"},
 		{"record", []string{"record", feetStages, "--rating", feetA}, "discharge in ft3/s", "a-ft.csv:2:1: stage (ft)"},
-		{"shifts", []string{"shifts", "testdata/record/gaugings.csv", "--rating", feetA}, "ft3/s", "a-ft.csv:2:1: stage (ft)"},
+		{"shifts", []string{"shifts", feetGaugings, "--rating", feetA}, "ft3/s", "a-ft.csv:2:1: stage (ft)"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
@@ -138,5 +139,69 @@ func TestRatingSheetUnits(t *testing.T) {
 	_, errs, code = runCLI(t, "compare", book, book, "--sheet-a", "rating", "--sheet-b", "rating", "--units", "si")
 	if code != 1 || !strings.Contains(errs, "r.xlsx['rating']!A1: stage (ft)") {
 		t.Errorf("with --units si: exit %d: %s", code, errs)
+	}
+}
+
+// Without --units, an input whose headers name no unit is in si units, as
+// it would be alone: beside an input whose headers name us units it is
+// refused, whichever is read first, naming the file and the column that
+// says ft, instead of taking the other's units (a metric section read as
+// feet, k = 1.486). Beside one naming si units, or with --units, it is
+// read.
+func TestUnitsUnnamedBesideFeet(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	feetA := withHeader(t, dir, "a-ft.csv", recRatingA, "stage,discharge", "stage (ft),discharge (ft3/s)")
+	metresB := withHeader(t, dir, "b-m.csv", recRatingB, "stage,discharge", "stage (m),discharge (m3/s)")
+	feetXS := withHeader(t, dir, "xs-ft.csv", recSectionA, "station,elevation", "station (ft),elevation (ft)")
+	feetGaugings := withHeader(t, dir, "g-ft.csv", "testdata/record/gaugings.csv", "time,stage,discharge", "time,stage (ft),discharge (ft3/s)")
+	feetStages := withHeader(t, dir, "stage-ft.csv", recStages, "time,stage (m)", "time,stage (ft)")
+	reachTable := filepath.Join(dir, "reach.csv")
+	if err := os.WriteFile(reachTable, []byte("section,survey,distance,ws_left,ws_right\nA,xs-ft.csv,0,11.2,\nB,plain.csv,300,11,\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "plain.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const unnamed = "without --units, a file whose headers name no unit is in si units"
+	plainGaugings := "testdata/record/gaugings.csv"
+	plainStages := "testdata/record/linear-stage.csv"
+	for _, c := range []struct {
+		name string
+		args []string
+		want []string // on standard error, none when read (exit 0)
+	}{
+		{"compare, ratings in feet then none", []string{"compare", feetA, recRatingB}, []string{recRatingB + ": " + unnamed, `a-ft.csv:2:1 says ft (us units) in column "stage (ft)"`, "give --units us"}},
+		{"compare, ratings in none then feet", []string{"compare", recRatingB, feetA}, []string{"a-ft.csv:2:1: stage (ft): " + unnamed, "the headers of " + recRatingB + " name no unit"}},
+		{"compare, with --units us", []string{"compare", feetA, recRatingB, "--units", "us"}, nil},
+		{"compare, none beside metres", []string{"compare", recRatingA, metresB}, nil},
+		{"compare, surveys in feet then none", []string{"compare", feetXS, recSectionB, "--stages", "12"}, []string{recSectionB + ": " + unnamed, "xs-ft.csv"}},
+		{"compare, surveys in none then feet", []string{"compare", recSectionB, feetXS, "--stages", "12"}, []string{"xs-ft.csv:2:1: station (ft): " + unnamed}},
+		{"compare, surveys with --units us", []string{"compare", feetXS, recSectionB, "--stages", "12", "--units", "us"}, nil},
+		{"fit --section", []string{"fit", feetGaugings, "--section", recSectionA, "--slope", "0.001"}, []string{recSectionA + ": " + unnamed, "g-ft.csv:2:2"}},
+		{"shifts --rating", []string{"shifts", plainGaugings, "--rating", feetA}, []string{plainGaugings + ": " + unnamed, "a-ft.csv:2:1"}},
+		{"record --rating, stages naming none", []string{"record", plainStages, "--rating", feetA}, []string{plainStages + ": " + unnamed}},
+		{"record --rating, rating naming none", []string{"record", feetStages, "--rating", recRatingA}, []string{"stage-ft.csv:2:2: stage (ft): " + unnamed}},
+		{"rate --calibrate", []string{"rate", feetXS, "--slope", "0.001", "--calibrate", plainGaugings}, []string{plainGaugings + ": " + unnamed}},
+		{"slopearea, a survey naming none", []string{"slopearea", reachTable, "--draws", "0"}, []string{"plain.csv: " + unnamed}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, c.args...)
+			if len(c.want) == 0 {
+				if code != 0 {
+					t.Errorf("exit %d: %s%s", code, out, errs)
+				}
+				return
+			}
+			if code != 1 || out != "" {
+				t.Errorf("exit %d, want 1 and no output: %s", code, out)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(errs, w) {
+					t.Errorf("error %q lacks %q", errs, w)
+				}
+			}
+		})
 	}
 }

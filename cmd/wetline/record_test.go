@@ -478,3 +478,41 @@ func TestRecordTableFoot(t *testing.T) {
 		})
 	}
 }
+
+// A reading far below its rating table (a missing-value code such as -999)
+// is a missing reading: the record gives the daily values of the same
+// record with that row left out, not a reading rated 0 below zero flow
+// that pulls the mean down, and says so once.
+func TestRecordMissingValueCode(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	const head = "time,stage\n2026-06-01T00:00,1.5\n2026-06-01T00:15,1.6\n"
+	const tail = "2026-06-01T00:45,1.7\n"
+	rt := filepath.Join(dir, "r.csv")
+	files := map[string]string{"r.csv": "stage,discharge\n0,0\n1,10\n2,40\n3,90\n",
+		"code.csv": head + "2026-06-01T00:30,-999\n" + tail, "left-out.csv": head + tail}
+	for name, text := range files {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	daily := func(stages string) (string, string) {
+		out, errs, code := runCLI(t, "record", filepath.Join(dir, stages), "--rating", rt, "--zero-flow", "0")
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", stages, code, errs)
+		}
+		i := strings.Index(out, "2026-06-01 ")
+		if i < 0 {
+			t.Fatalf("%s: no daily row:\n%s", stages, out)
+		}
+		return out[i : i+strings.Index(out[i:], "\n")], out
+	}
+	got, out := daily("code.csv")
+	want, _ := daily("left-out.csv")
+	if got != want {
+		t.Errorf("daily row with the code\n%s\nwant that without its row\n%s", got, want)
+	}
+	if !strings.Contains(out, "1 reading(s) lie below the lowest row of their rating table") || !strings.Contains(out, "left out as missing readings") || strings.Contains(out, "below_zero_flow") {
+		t.Errorf("report:\n%s", out)
+	}
+}

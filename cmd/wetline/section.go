@@ -167,15 +167,14 @@ func (sf *sectionFlags) prepare(path string) (*survey.Prepared, error) {
 	return p, sf.requestError(err)
 }
 
-// prepareIn is prepare for a section that must be in unit system u (that
-// of another input read first).
-func (sf *sectionFlags) prepareIn(path string, u rating.Units) (*survey.Prepared, error) {
+// prepareIn is prepare for a section read with other inputs, in the
+// units decided by them (see unitsDecided.prepareWith).
+func (sf *sectionFlags) prepareIn(path string, d *unitsDecided) (*survey.Prepared, error) {
 	req, err := sf.request(path)
 	if err != nil {
 		return nil, err
 	}
-	req.Units, req.UnitsGiven = u, true
-	p, err := survey.Prepare(req)
+	p, err := d.prepareWith(req)
 	return p, sf.requestError(err)
 }
 
@@ -249,18 +248,37 @@ func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Optio
 
 // sectionUnits is the unit system of a prepared section as other inputs
 // read with it must take it: set by --units, the survey's headers, or the
-// default (si) when neither said.
+// default (si) when neither said (see unitsDecided.take).
 func sectionUnits(fs *flagSet, p *survey.Prepared) *unitsDecided {
-	d := &unitsDecided{UnitChoice: survey.UnitChoice{Units: p.Units, Given: true}, by: "default, the survey's headers naming none"}
+	d := &unitsDecided{UnitChoice: survey.UnitChoice{Units: p.Units, Given: true}}
 	switch {
 	case fs.Changed("units"):
-		d.by = "--units"
-	case p.Survey.Units.Found:
-		d.by = "the headers of " + p.Source()
+		d.by, d.fixed = "--units", true
 	case p.Built:
-		d.by = "default, for the built shape"
+		d.by, d.fixed = "default, for the built shape", true
+	default:
+		d.src = survey.UnitSource{File: p.Source(), Note: p.Survey.Units}
+		d.by = "the headers of " + p.Source()
 	}
 	return d
+}
+
+// prepareWith reads the section of req in the units decided, which its
+// headers must agree with (see unitsDecided.take); a built shape takes
+// them.
+func (d *unitsDecided) prepareWith(req survey.SectionRequest) (*survey.Prepared, error) {
+	req.Units, req.UnitsGiven = d.Units, d.fixed || (d.Given && req.Shape != "")
+	p, err := survey.Prepare(req)
+	if err != nil {
+		return nil, err
+	}
+	if !p.Built {
+		if err := d.take(p.Survey.Units, p.Source()); err != nil {
+			return nil, err
+		}
+		p.Units = d.Units
+	}
+	return p, nil
 }
 
 // connectedFlag keeps the flag --connected of earlier versions, whose

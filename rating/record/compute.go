@@ -191,12 +191,16 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
+	st, codes := withoutMissingCodes(st, r, zone(off))
 	res := &Result{
 		Name: st.Name, Units: make([]UnitValue, len(st.Time)), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
 		Zone: zone(off), UnitSystem: opt.UnitSystem,
 	}
 	res.uses(r)
+	if codes != "" {
+		res.Warnings = append(res.Warnings, codes)
+	}
 	c := newCounter(res, st, off)
 	res.unitValues(st, r, maxGap, c)
 	c.integrate(st, r, maxGap)
@@ -323,6 +327,51 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 			l.far, n, l.farLowest, at(l.farAt), l.farTable, l.farFloor, l.farFloor+l.farRange))
 	}
 	return warnings
+}
+
+// withoutMissingCodes returns st without the readings that lie below the
+// lowest row of their rating table by more than FarBelowTable times the
+// table's stage range: missing-value codes, left out as a blank stage is,
+// so that they add nothing to the means and leave their day's coverage
+// short. The warning, "" when there are none, counts them and names the
+// first.
+func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, string) {
+	keep := func(i int) bool {
+		t, h := st.Time[i], st.Stage[i]
+		v := r.AtUnix(t, h, false)
+		rt := r.Rating(v.Period)
+		if rt == nil {
+			return true
+		}
+		lo, hi := rt.Range()
+		return !(v.Effective < lo-FarBelowTable*(hi-lo))
+	}
+	first := -1
+	for i := range st.Time {
+		if !keep(i) {
+			first = i
+			break
+		}
+	}
+	if first < 0 {
+		return st, ""
+	}
+	out := &Stages{Name: st.Name, Qualities: st.Qualities}
+	n := 0
+	for i := range st.Time {
+		if !keep(i) {
+			n++
+			continue
+		}
+		out.Time = append(out.Time, st.Time[i])
+		out.Stage = append(out.Stage, st.Stage[i])
+		if st.Quality != nil {
+			out.Quality = append(out.Quality, st.Quality[i])
+		}
+	}
+	return out, fmt.Sprintf("%d reading(s) lie below the lowest row of their rating table by more than the table's whole stage range "+
+		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings", n, st.Stage[first],
+		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
 }
 
 // unitValues rates every reading.

@@ -191,8 +191,8 @@ func TestFlags(t *testing.T) {
 
 // TestLowReadingWarnings: readings below the gauge height of zero flow are
 // counted with the lowest of them, and readings below the table's lowest
-// row by more than its stage range (0.5 to 3 m: below −2 m) are warned of
-// as a missing-value code. The -9999 of the cases stands for a logger's
+// row by more than its stage range (0.5 to 3 m: below −2 m) are
+// missing-value codes, left out as missing readings and warned of once. The -9999 of the cases stands for a logger's
 // missing-value code (common practice).
 func TestLowReadingWarnings(t *testing.T) {
 	withE := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.5, Discharge: 1}, {Stage: 3, Discharge: 30}},
@@ -209,16 +209,17 @@ func TestLowReadingWarnings(t *testing.T) {
 		{"at zero flow is not below", withE, stages(0, 1, 1, 0.2, 2, 1), "", ""},
 		{"just below zero flow", withE, stages(0, 1, 1, 0.1, 2, 0.15, 3, 1),
 			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T01:00:00Z)", ""},
+		// A missing-value code is left out: the other three are rated.
 		{"a missing-value code", withE, stages(0, 1, 1, -9999, 2, 0.1, 3, 1),
-			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest -9999 at 2024-01-01T01:00:00Z)",
-			"1 of 4 readings lie below the lowest row of their rating table by more than the table's whole stage range " +
-				`(the lowest -9999 at 2024-01-01T01:00:00Z, under "r" whose rows span 0.5 to 3)`},
+			"1 of 3 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T02:00:00Z)",
+			"1 reading(s) lie below the lowest row of their rating table by more than the table's whole stage range " +
+				"(the first -9999 at 2024-01-01T01:00:00Z): read as missing-value codes (such as -9999), left out as missing readings"},
 		// 0.5 − 2.5 = −2: −2 itself is not far below, −2.01 is.
 		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lie below the gauge height of zero flow", ""},
-		{"beyond the bound", withE, stages(0, 1, 1, -2.01, 2, 1), "1 of 3 readings lie below the gauge height of zero flow",
-			"1 of 3 readings lie below the lowest row of their rating table"},
+		{"beyond the bound", withE, stages(0, 1, 1, -2.01, 2, 1), "",
+			"1 reading(s) lie below the lowest row of their rating table"},
 		{"no zero flow: outside the table", noE, stages(0, 1, 1, -9999, 2, -999), "",
-			"2 of 3 readings lie below the lowest row of their rating table by more than the table's whole stage range (the lowest -9999"},
+			"2 reading(s) lie below the lowest row of their rating table by more than the table's whole stage range (the first -9999"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res := compute(t, tc.st, rater(t, gauged.History{Periods: []gauged.Period{{Rating: tc.rt}}}), Options{})
