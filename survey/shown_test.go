@@ -1,7 +1,9 @@
 package survey
 
 import (
+	"encoding/csv"
 	"errors"
+	"io"
 	"math"
 	"path/filepath"
 	"strings"
@@ -295,4 +297,35 @@ func TestCSVQuoteErrorPlace(t *testing.T) {
 			t.Errorf("%s: %v, want %s", tc.name, err, tc.want)
 		}
 	}
+}
+
+// The place given for a CSV syntax error lies within the record
+// encoding/csv reports it in: from its first line to the line of the
+// fault, at a field number of at least 1.
+func FuzzCSVSyntaxError(f *testing.F) {
+	for _, s := range []string{"a,b\n1,\"2\n3,4\n", "a,b\n1,x\"y\n", "a,\"b\"c\n", "\"a\nb\"\"\"x,1\n", "a,b\r\n 1, \"2\"3\r\n"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		cr := csv.NewReader(strings.NewReader(s))
+		cr.Comment, cr.FieldsPerRecord, cr.TrimLeadingSpace = '#', -1, true
+		for {
+			_, err := cr.Read()
+			if err == io.EOF {
+				return
+			}
+			var pe *csv.ParseError
+			if !errors.As(err, &pe) {
+				if err != nil {
+					return
+				}
+				continue
+			}
+			e := csvSyntaxError("t.csv", []byte(s), 1, []string{"a", "b"}, pe)
+			if e.Row < pe.StartLine || e.Row > pe.Line || e.Column < 0 || !errors.Is(e, pe.Err) {
+				t.Fatalf("%v placed at row %d column %d", pe, e.Row, e.Column)
+			}
+			return
+		}
+	})
 }
