@@ -13,17 +13,13 @@ import (
 // comma shifting the rest of the row.
 func TestValueBeyondHeader(t *testing.T) {
 	t.Parallel()
-	table := func(s string) error { _, err := ParseCSV(strings.NewReader(s), "t.csv"); return err }
-	stages := func(s string) error {
-		_, err := ParseStageRecord(strings.NewReader(s), "t.csv", StageRecordOptions{})
-		return err
-	}
+	table, stages := csvTableErr, csvStagesErr
 	for _, tc := range []struct {
 		name, csv string
 		read      func(string) error
 		at        string // "" when read
 	}{
-		{"decimal comma", "station,elevation\n0,1\n1,0,5\n2,1\n", table, `t.csv:3:3: a value beyond the header's last column ("5")`},
+		{"decimal comma", "station,elevation\n0,1\n1,0,5\n2,1\n", table, `t.csv:3:3: a value beyond the header's last column ("5"): name its column in the header, or quote a value that holds a comma`},
 		{"after blank names", "station,elevation,,\n0,1,,7\n", table, "t.csv:2:4: a value beyond"},
 		{"quoted", "station,elevation\n0,1,\"x\"\n", table, "t.csv:2:3: a value beyond"},
 		{"trailing commas", "station,elevation,,\n0,1,,\n1,0,,,,\n", table, ""},
@@ -56,6 +52,8 @@ func TestValueBeyondHeaderWorkbook(t *testing.T) {
 	}, []string{"xs", "stages", "fine"})
 	if _, err := ReadTable(path, "xs"); !errors.Is(err, ErrBeyondHeader) || !strings.Contains(err.Error(), "field.xlsx['xs']!D3: a value beyond") {
 		t.Errorf("table: %v", err)
+	} else if strings.Contains(err.Error(), "comma") || !strings.HasSuffix(err.Error(), "name its column in the header") {
+		t.Errorf("table: %v: a sheet's cells hold no separators, so no advice on commas", err)
 	}
 	if _, err := ReadStageRecord(path, StageRecordOptions{Sheet: "stages"}); !errors.Is(err, ErrBeyondHeader) || !strings.Contains(err.Error(), "field.xlsx['stages']!C3: a value beyond") {
 		t.Errorf("stage record: %v", err)
@@ -63,4 +61,13 @@ func TestValueBeyondHeaderWorkbook(t *testing.T) {
 	if _, err := ReadTable(path, "fine"); err != nil {
 		t.Errorf("blank cell beyond the header: %v", err)
 	}
+}
+
+// csvTableErr is the error of ParseCSV reading s as t.csv.
+func csvTableErr(s string) error { _, err := ParseCSV(strings.NewReader(s), "t.csv"); return err }
+
+// csvStagesErr is the error of ParseStageRecord reading s as t.csv.
+func csvStagesErr(s string) error {
+	_, err := ParseStageRecord(strings.NewReader(s), "t.csv", StageRecordOptions{})
+	return err
 }

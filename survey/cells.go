@@ -64,9 +64,34 @@ type unsavedCells struct {
 	col, row, count int
 }
 
+// cellMark tells how a cell's raw value differs from what a spreadsheet
+// program shows of it.
+type cellMark uint8
+
+const (
+	// markBoolean is a boolean cell (t="b"): stored 1 or 0, shown TRUE or
+	// FALSE.
+	markBoolean cellMark = iota + 1
+	// markPercent is a number cell with a percent format: stored 0.05,
+	// shown 5%.
+	markPercent
+)
+
+// cellAt is a cell's 1-based row and column.
+type cellAt struct{ row, col int64 }
+
+// sheetScan is what the check of a workbook's zip archive found of one
+// sheet: its formula cells with no saved value, and its cells whose raw
+// value is not what is shown.
+type sheetScan struct {
+	unsaved unsavedCells
+	marks   map[cellAt]cellMark
+}
+
 // checkWorkbookZip is CheckWorkbookZip; it also returns, by sheet name,
-// the formula cells of each sheet that have no saved value.
-func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]unsavedCells, error) {
+// what the scan of each sheet found (sheets with nothing to tell are
+// left out).
+func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
 	if size > MaxWorkbookBytes {
 		return nil, fmt.Errorf("%w: larger than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 	}
@@ -91,15 +116,16 @@ func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]unsavedCells, error
 			return nil, fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 		}
 	}
-	byPart := map[string]unsavedCells{}
+	percent := percentStyles(zr)
+	byPart := map[string]sheetScan{}
 	for _, f := range zr.File {
 		if strings.HasPrefix(f.Name, "xl/worksheets/") && strings.HasSuffix(f.Name, ".xml") {
-			u, err := scanSheet(f)
+			sc, err := scanSheet(f, percent)
 			if err != nil {
 				return nil, err
 			}
-			if u.count > 0 {
-				byPart[f.Name] = u
+			if sc.unsaved.count > 0 || len(sc.marks) > 0 {
+				byPart[f.Name] = sc
 			}
 		}
 	}
@@ -110,7 +136,7 @@ func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]unsavedCells, error
 	if err != nil {
 		return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, err)
 	}
-	out := map[string]unsavedCells{}
+	out := map[string]sheetScan{}
 	for name, part := range parts {
 		if u, ok := byPart[part]; ok {
 			out[name] = u
@@ -161,30 +187,38 @@ var ErrRowOrder = errors.New("a sheet's rows are out of order or repeated")
 // scanSheet reads a worksheet's XML as a sequence of tags, without
 // decoding it: the numbers of its rows (their r attributes) must rise
 // strictly (ErrRowOrder), and the cells holding a formula (an f element)
-// but no saved value (no v element) are returned.
-func scanSheet(f *zip.File) (unsavedCells, error) {
-	var u unsavedCells
+// but no saved value (no v element) are returned, with the boolean cells
+// and the number cells whose style is one of percent (see percentStyles).
+func scanSheet(f *zip.File, percent map[int64]bool) (sheetScan, error) {
+	var out sheetScan
+	u := &out.unsaved
 	rc, err := f.Open()
 	if err != nil {
-		return u, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+		return out, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
 	}
 	defer rc.Close()
 	sc := tagScanner{br: bufio.NewReaderSize(rc, 64<<10)}
 	var last, row, col int64
 	inCell, formula, value := false, false, false
+	mark := func(m cellMark) {
+		if out.marks == nil {
+			out.marks = map[cellAt]cellMark{}
+		}
+		out.marks[cellAt{row, col}] = m
+	}
 	for {
 		tag, err := sc.next()
 		if err == io.EOF {
-			return u, nil
+			return out, nil
 		}
 		if err != nil {
-			return u, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+			return out, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
 		}
 		switch name := string(tag.name); {
 		case name == "row" && !tag.end:
 			n := attrNumber(tag.attrs, "r")
 			if n > 0 && n <= last {
-				return u, fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)
+				return out, fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)
 			}
 			if n > 0 {
 				last, row = n, n
@@ -199,6 +233,15 @@ func scanSheet(f *zip.File) (unsavedCells, error) {
 			}
 			// A cell outside a row is not read, and not told.
 			inCell, formula, value = !tag.self && row > 0, false, false
+			if !inCell {
+				break
+			}
+			switch t := string(attrValue(tag.attrs, "t")); {
+			case t == "b":
+				mark(markBoolean)
+			case (t == "" || t == "n") && len(percent) > 0 && percent[attrNumber(tag.attrs, "s")]:
+				mark(markPercent)
+			}
 		case name == "f" && !tag.end:
 			formula = inCell
 		case name == "v" && !tag.end:
@@ -438,4 +481,90 @@ func readXML(zr *zip.Reader, name string, v any) error {
 	}
 	defer f.Close()
 	return xml.NewDecoder(f).Decode(v)
+}
+
+// percentStyles returns the cell styles (indices into the cellXfs of the
+// workbook's styles part) whose number format shows a percent: the
+// built-in formats 9 (0%) and 10 (0.00%), and custom formats whose first
+// section ends in an unquoted, unescaped percent sign. A workbook with no
+// readable styles part has none.
+func percentStyles(zr *zip.Reader) map[int64]bool {
+	var st struct {
+		NumFmts []struct {
+			ID   int64  `xml:"numFmtId,attr"`
+			Code string `xml:"formatCode,attr"`
+		} `xml:"numFmts>numFmt"`
+		Xfs []struct {
+			NumFmtID int64 `xml:"numFmtId,attr"`
+		} `xml:"cellXfs>xf"`
+	}
+	if err := readXML(zr, stylesPart(zr), &st); err != nil {
+		return nil
+	}
+	formats := map[int64]bool{9: true, 10: true}
+	for _, nf := range st.NumFmts {
+		formats[nf.ID] = percentFormat(nf.Code)
+	}
+	var out map[int64]bool
+	for i, xf := range st.Xfs {
+		if formats[xf.NumFmtID] {
+			if out == nil {
+				out = map[int64]bool{}
+			}
+			out[int64(i)] = true
+		}
+	}
+	return out
+}
+
+// stylesPart returns the name of a workbook's styles part, as the
+// workbook's relationships name it (normally xl/styles.xml).
+func stylesPart(zr *zip.Reader) string {
+	var rels struct {
+		Rel []struct {
+			Type   string `xml:"Type,attr"`
+			Target string `xml:"Target,attr"`
+		} `xml:"Relationship"`
+	}
+	if err := readXML(zr, "xl/_rels/workbook.xml.rels", &rels); err == nil {
+		for _, r := range rels.Rel {
+			if strings.HasSuffix(r.Type, "/styles") {
+				if strings.HasPrefix(r.Target, "/") {
+					return strings.TrimPrefix(r.Target, "/")
+				}
+				return path.Join("xl", r.Target)
+			}
+		}
+	}
+	return "xl/styles.xml"
+}
+
+// percentFormat reports whether a number format code shows a number as a
+// percent: its first section (the one for positive numbers) ends in a
+// percent sign that is neither quoted ("%") nor escaped (\%), spaces and
+// quoted text after it aside.
+func percentFormat(code string) bool {
+	last := byte(0)
+	quoted := false
+	for i := 0; i < len(code); i++ {
+		switch c := code[i]; {
+		case quoted:
+			if c == '"' {
+				quoted = false
+			}
+		case c == '"':
+			quoted = true
+		case c == '\\':
+			i++
+			last = 0
+		case c == ';':
+			return last == '%'
+		case c == '_' || c == '*':
+			i++ // a space the width of, or a fill of, the next character
+		case c == ' ':
+		default:
+			last = c
+		}
+	}
+	return last == '%'
 }

@@ -34,6 +34,9 @@ type csvStream struct {
 	started bool
 	// err is what the head of the file showed, returned by next.
 	err error
+	// header names the fields of the table's records, once its reader
+	// knows them, for messages.
+	header []string
 }
 
 // queued is a record parsed by encoding/csv from a quoted chunk.
@@ -204,7 +207,7 @@ func (c *csvStream) quoted(first []byte) error {
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return &ParseError{File: c.name, Row: start + pe.Line - 1, Column: pe.Column, Err: pe.Err}
+				return csvSyntaxError(c.name, chunk, start, c.header, pe)
 			}
 			return &ParseError{File: c.name, Row: start, Err: err}
 		}

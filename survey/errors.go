@@ -79,6 +79,18 @@ var (
 	ErrNotPositive   = errors.New("must be a positive number")
 )
 
+// Causes of numbers refused for what they hold besides digits, for
+// errors.Is.
+var (
+	// ErrThousands is the cause of a number whose comma is followed by
+	// three digits (2,076 or 1,248.5): a thousands separator, or a decimal
+	// comma, which is not guessed.
+	ErrThousands = errors.New("looks like a thousands separator: write numbers without one (and with a decimal point)")
+	// ErrPercent is the cause of a percent (5%, or a workbook cell with a
+	// percent format) in a number column that is not in percent.
+	ErrPercent = errors.New("a percent in a column that is not in percent: write the number itself")
+)
+
 // MaxReported bounds how many row errors one file reports.
 const MaxReported = 20
 

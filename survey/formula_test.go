@@ -163,15 +163,20 @@ func FuzzScanSheet(f *testing.F) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		u, err := scanSheet(zr.File[0])
+		sc, err := scanSheet(zr.File[0], map[int64]bool{1: true})
 		if err != nil {
 			if !errors.Is(err, ErrRowOrder) && !errors.Is(err, ErrWorkbookZip) {
 				t.Fatalf("error %v is neither ErrRowOrder nor ErrWorkbookZip", err)
 			}
 			return
 		}
-		if u.count < 0 || (u.count > 0 && (u.col < 1 || u.row < 1)) {
+		if u := sc.unsaved; u.count < 0 || (u.count > 0 && (u.col < 1 || u.row < 1)) {
 			t.Fatalf("unsaved cells %+v", u)
+		}
+		for at := range sc.marks {
+			if at.row < 1 || at.col < 1 {
+				t.Fatalf("a cell marked at row %d column %d", at.row, at.col)
+			}
 		}
 	})
 }

@@ -84,13 +84,15 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 
 // GaugingsFromTable turns a table with columns time, stage (or
 // gauge_height) and discharge, and optional quality, note, uncertainty
-// (percent at 95 %, above 0 and below MaxUncertaintyPercent; blank: the
-// quality's band) and exclude (any text excludes the gauging from a fit
+// (percent at 95 %, above 0 and below MaxUncertaintyPercent, a percent
+// sign after the number allowed, a workbook cell with a percent format
+// read as the percent it shows; blank: the quality's band) and exclude (any text excludes the gauging from a fit
 // and is its reason), into gaugings. Stage and discharge are read in the
 // units the headers say (Gaugings.Units). Every bad cell is reported, each
 // a *ParseError naming its row and column, joined: a blank or unreadable
-// time (ErrBlankTime; ErrISOTime, ErrSubSecond or ErrSerialInCSV, see
-// ParseTime), stage or discharge (ErrNotNumber, ErrImplausible
+// time (ErrBlankTime; ErrISOTime, ErrAmbiguousDate, ErrSubSecond or
+// ErrSerialInCSV, see ParseTime), stage or discharge (ErrNotNumber,
+// ErrThousands, ErrDecimalComma, ErrPercent, ErrImplausible
 // beyond MaxElevation or rating.MaxDischarge), a negative discharge
 // (ErrNegativeDischarge), an unknown quality word, an uncertainty that is
 // not a number in range (ErrUncertainty), and a time given twice
@@ -244,7 +246,7 @@ func (rd *gaugingReader) number(rec Record, col int, what string, limit float64)
 // range.
 func (rd *gaugingReader) uncertainty(rec Record, g *gauged.Gauging) {
 	cu := rd.cols.uncertainty
-	u, ok, err := rd.t.Float(rec, cu)
+	u, ok, err := rd.t.percent(rec, cu)
 	switch {
 	case err != nil:
 		rd.errs = append(rd.errs, err.(*ParseError))

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"regexp"
 	"strings"
 	"time"
 
@@ -11,6 +12,75 @@ import (
 
 	"wetline/rating/record"
 )
+
+// ErrAmbiguousDate is the cause of a date written day/month/year or
+// month/day/year (03/04/2026, 3.4.2026): which is the day cannot be told.
+// Its errors also wrap ErrISOTime.
+var ErrAmbiguousDate = errors.New("ambiguous (day-first or month-first)")
+
+// dayMonthDate matches the start of a time written as a date of three
+// numbers separated by slashes or dots, the year last.
+var dayMonthDate = regexp.MustCompile(`^([0-9]{1,2})([./])([0-9]{1,2})([./])([0-9]{2}|[0-9]{4})(?:$|[ T])`)
+
+// dayMonthError is the error of a day/month/year date: it wraps
+// ErrAmbiguousDate and ErrISOTime, and shows the ISO 8601 forms of its
+// readings.
+type dayMonthError struct {
+	iso string
+	// one is set when only one reading is a date (13/04/2026).
+	one bool
+}
+
+func (e *dayMonthError) Error() string {
+	if e.one {
+		return fmt.Sprintf("a date written with the day and month as numbers is %v: write ISO 8601 (%s)", ErrAmbiguousDate, e.iso)
+	}
+	return fmt.Sprintf("%v: write ISO 8601 (%s)", ErrAmbiguousDate, e.iso)
+}
+
+func (e *dayMonthError) Unwrap() []error { return []error{ErrAmbiguousDate, ErrISOTime} }
+
+// dayMonth returns a *dayMonthError when s starts as a date written
+// day/month/year or month/day/year (slashes or dots, one separator), nil
+// otherwise. With a four-digit year the error gives the ISO 8601 date of
+// each reading that is a date (day-first first).
+func dayMonth(s string) error {
+	m := dayMonthDate.FindStringSubmatch(strings.TrimSpace(s))
+	if m == nil || m[2] != m[4] {
+		return nil
+	}
+	if len(m[5]) != 4 {
+		return &dayMonthError{iso: "YYYY-MM-DD, such as 2026-04-03"}
+	}
+	a, b := decimalDigits(m[1]), decimalDigits(m[3])
+	var forms []string
+	for _, dm := range [][2]int{{a, b}, {b, a}} {
+		d, mo := dm[0], dm[1]
+		y := decimalDigits(m[5])
+		if mo >= 1 && mo <= 12 && d >= 1 && d <= int(daysIn(int64(y), int64(mo))) {
+			f := fmt.Sprintf("%s-%02d-%02d", m[5], mo, d)
+			if len(forms) == 0 || forms[0] != f {
+				forms = append(forms, f)
+			}
+		}
+	}
+	switch len(forms) {
+	case 0:
+		return &dayMonthError{iso: "YYYY-MM-DD, such as 2026-04-03"}
+	case 1:
+		return &dayMonthError{iso: forms[0], one: true}
+	}
+	return &dayMonthError{iso: forms[0] + " day-first, " + forms[1] + " month-first"}
+}
+
+// decimalDigits reads a string of decimal digits.
+func decimalDigits(s string) int {
+	n := 0
+	for _, c := range s {
+		n = n*10 + int(c-'0')
+	}
+	return n
+}
 
 // Causes of time errors in records and diagrams, for errors.Is.
 var (
@@ -68,7 +138,8 @@ func checkYear(y int64) error {
 // spreadsheets and databases write it; t and z may be lower case (RFC 3339,
 // 5.6, note); the hour may have one digit (9:30), as spreadsheets write it.
 // Leading and trailing spaces are dropped. Day-first and month-first dates
-// (03/04/2026) are refused: they are ambiguous.
+// (03/04/2026, 3.4.2026) are refused as ambiguous (ErrAmbiguousDate,
+// which also wraps ErrISOTime), the error giving their ISO 8601 readings.
 //
 // A time written without an offset is at UTC plus offset (UTC when offset
 // is 0). The result is the instant, located at the offset written with it
@@ -112,6 +183,9 @@ func instant(sec, zone int64, zoned bool) time.Time {
 func parseISOZone[T string | []byte](b T, off int64) (sec, zone int64, zoned bool, err error) {
 	n := len(b)
 	if n < 10 || b[4] != '-' || b[7] != '-' {
+		if err := dayMonth(string(b)); err != nil {
+			return 0, 0, false, err
+		}
 		return 0, 0, false, ErrISOTime
 	}
 	y, ok1 := digits(b, 0, 4)
@@ -294,7 +368,7 @@ func cellTimeZone[T string | []byte](s T, inWorkbook, date1904 bool, off int64) 
 	}
 	v, nerr := ParseNumber(string(s))
 	if nerr != nil {
-		return 0, 0, false, ErrISOTime
+		return 0, 0, false, err
 	}
 	if !inWorkbook {
 		return 0, 0, false, ErrSerialInCSV

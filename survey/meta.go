@@ -82,9 +82,16 @@ func addMetaLine(meta map[string]string, line string) map[string]string {
 		if meta == nil {
 			meta = map[string]string{}
 		}
-		meta[key] = strings.TrimSpace(v)
+		meta[key] = keyValue(v)
 	}
 	return meta
+}
+
+// keyValue is the value of a key line, trimmed, without the empty CSV
+// fields a spreadsheet program adds when it saves the line as a row of a
+// wider table ("# site: Quillback Run,," reads "Quillback Run").
+func keyValue(v string) string {
+	return strings.TrimRight(strings.TrimSpace(v), ", \t")
 }
 
 // siteOf is the site metadata of a map of MetaKeys.

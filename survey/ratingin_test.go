@@ -69,7 +69,7 @@ func TestRatingFromTableTimes(t *testing.T) {
 		{"with an offset after none", head + "2024-01-01,1,0\n2024-01-01T00:00Z,2,5\n", ErrMixedOffsets, 3, "t.csv:3:1: valid_from \"2024-01-01T00:00Z\": times with and without a UTC offset in one file: row 3 has one, row 2 has none"},
 		{"none after an offset", head + "2024-01-01T00:00+00:00,1,0\n2024-01-01,2,5\n", ErrMixedOffsets, 3, "row 2 has one, row 3 has none"},
 		{"not a time", head + "2024-13-01,1,0\n,2,5\n", ErrISOTime, 2, "t.csv:2:1: valid_from \"2024-13-01\": not an ISO 8601 date-time"},
-		{"day first", head + "01/02/2024,1,0\n,2,5\n", ErrISOTime, 2, "not an ISO 8601 date-time"},
+		{"day first", head + "01/02/2024,1,0\n,2,5\n", ErrAmbiguousDate, 2, "ambiguous (day-first or month-first): write ISO 8601 (2024-02-01 day-first, 2024-01-02 month-first)"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})

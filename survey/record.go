@@ -127,6 +127,7 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 			if err := b.setHeader(h, line, sizeHint); err != nil {
 				return nil, err
 			}
+			cs.header = h
 			continue
 		}
 		b.row(fields, line)
@@ -170,6 +171,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 		if blank(rec) {
 			continue
 		}
+		f.shown(sheet, n, rec)
 		if b.header == nil {
 			if k, v, ok := metaRow(rec); ok {
 				if meta == nil {

@@ -134,15 +134,63 @@ func openWorkbook(path string) (*inputBook, error) {
 // zip archive found of its sheets.
 type inputBook struct {
 	*excelize.File
-	// unsaved holds, by sheet name, the cells with a formula and no saved
-	// value.
-	unsaved map[string]unsavedCells
+	// scans holds, by sheet name, the cells with a formula and no saved
+	// value and the cells whose raw value is not what is shown.
+	scans map[string]sheetScan
+}
+
+// shown rewrites the raw values of a row of a sheet (row is 1-based) as
+// a spreadsheet program shows them, where the two differ in a way a
+// reader must know: a boolean cell reads TRUE or FALSE (never a number),
+// and a number cell with a percent format reads as the percent shown
+// (0.05 as 5%), which only a column in percent takes (see
+// Table.percent) and every other number column refuses (ErrPercent).
+func (f *inputBook) shown(sheet string, row int, rec []string) {
+	marks := f.scans[sheet].marks
+	if len(marks) == 0 {
+		return
+	}
+	for i, raw := range rec {
+		switch marks[cellAt{int64(row), int64(i + 1)}] {
+		case markBoolean:
+			switch strings.TrimSpace(raw) {
+			case "1":
+				rec[i] = "TRUE"
+			case "0":
+				rec[i] = "FALSE"
+			}
+		case markPercent:
+			rec[i] = percentShown(raw)
+		}
+	}
+}
+
+// percentShown writes the raw value of a percent-formatted number cell
+// as the percent it shows: its decimal digits moved two places, so that
+// 0.07 reads 7% (not 7.000000000000001%). A value that is not a number
+// is returned as it is.
+func percentShown(raw string) string {
+	v, err := strconv.ParseFloat(strings.TrimSpace(raw), 64)
+	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		return raw
+	}
+	e := strconv.FormatFloat(v, 'e', -1, 64) // shortest digits: 7e-02
+	i := strings.IndexByte(e, 'e')
+	exp, err := strconv.Atoi(e[i+1:])
+	if err != nil {
+		return raw
+	}
+	p, err := strconv.ParseFloat(e[:i]+"e"+strconv.Itoa(exp+2), 64)
+	if err != nil {
+		return raw
+	}
+	return strconv.FormatFloat(p, 'g', -1, 64) + "%"
 }
 
 // openWorkbookBytes opens a workbook held in memory; name is used in
 // messages.
 func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
-	unsaved, err := checkWorkbookZip(bytes.NewReader(data), int64(len(data)))
+	scans, err := checkWorkbookZip(bytes.NewReader(data), int64(len(data)))
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
@@ -150,7 +198,7 @@ func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	return &inputBook{File: f, unsaved: unsaved}, nil
+	return &inputBook{File: f, scans: scans}, nil
 }
 
 // ErrFormulaNoValue is the cause of a formula cell whose value was never
@@ -161,8 +209,8 @@ var ErrFormulaNoValue = errors.New("a formula with no saved value: open and save
 // unsavedError is the ParseError at the first cell of a sheet holding a
 // formula with no saved value, nil when the sheet has none.
 func (f *inputBook) unsavedError(path, sheet string) error {
-	u, ok := f.unsaved[sheet]
-	if !ok {
+	u := f.scans[sheet].unsaved
+	if u.count == 0 {
 		return nil
 	}
 	err := ErrFormulaNoValue
@@ -238,9 +286,84 @@ func beyondHeader[S ~string | ~[]byte](rec []S, width int) int {
 
 // beyondHeaderError is the ParseError of a value text at 0-based column
 // col of a row, after the header's last named column.
+// In a CSV file (sheet "") it advises quoting a value that holds a comma,
+// the usual cause; a sheet's cells hold no separators.
 func beyondHeaderError(file, sheet string, row, col int, text string) *ParseError {
+	advice := "name its column in the header"
+	if sheet == "" {
+		advice += ", or quote a value that holds a comma"
+	}
 	return &ParseError{File: file, Sheet: sheet, Row: row, Column: col + 1, Text: text,
-		Err: fmt.Errorf("%w (%q): name its column in the header, or quote a value that holds a comma", ErrBeyondHeader, echo(strings.TrimSpace(text)))}
+		Err: fmt.Errorf("%w (%q): %s", ErrBeyondHeader, echo(strings.TrimSpace(text)), advice)}
+}
+
+// csvSyntaxError is the ParseError of an error of CSV syntax (a quote
+// out of place) that encoding/csv found in data, whose first line is line
+// first of the file. The error's character offset is turned into the
+// field it falls in: the row is the line where that field starts, the
+// column its 1-based field number, named from header when the header is
+// known; the cause keeps the line and character where the fault was
+// found.
+func csvSyntaxError(file string, data []byte, first int, header []string, pe *csv.ParseError) *ParseError {
+	at := fmt.Errorf("%w (at character %d of line %d)", pe.Err, pe.Column, first+pe.Line-1)
+	line, field, ok := csvFieldAt(data, pe.StartLine, pe.Line, pe.Column)
+	if !ok {
+		return &ParseError{File: file, Row: first + pe.Line - 1, Err: at}
+	}
+	e := &ParseError{File: file, Row: first + line - 1, Column: field, Err: at}
+	if field <= len(header) {
+		e.Name = header[field-1]
+	}
+	return e
+}
+
+// csvFieldAt finds, in CSV text, the field holding the byte at 1-based
+// character col of 1-based line of the record starting on line start: its
+// 1-based number in the record and the line where it starts. Fields are
+// read as encoding/csv reads them (RFC 4180; spaces before a field
+// skipped); ok is false when the position is not in the text.
+func csvFieldAt(data []byte, start, line, col int) (fieldLine, field int, ok bool) {
+	i, ln := 0, 1
+	for ln < start {
+		j := bytes.IndexByte(data[i:], '\n')
+		if j < 0 {
+			return 0, 0, false
+		}
+		i, ln = i+j+1, ln+1
+	}
+	field, fieldLine = 1, ln
+	atStart, quoted := true, false
+	lineStart := i
+	for ; i <= len(data); i++ {
+		if ln > line || (ln == line && i-lineStart+1 >= col) || (i == len(data) && quoted) {
+			return fieldLine, field, true
+		}
+		if i == len(data) {
+			break
+		}
+		c := data[i]
+		switch {
+		case c == '\n':
+			ln, lineStart = ln+1, i+1
+			if !quoted {
+				return 0, 0, false // the record ended before the position
+			}
+		case atStart && (c == ' ' || c == '\t'):
+		case atStart && c == '"':
+			quoted, atStart = true, false
+		case quoted && c == '"':
+			if i+1 < len(data) && data[i+1] == '"' {
+				i++
+			} else {
+				quoted = false
+			}
+		case !quoted && c == ',':
+			field, fieldLine, atStart = field+1, ln, true
+		default:
+			atStart = false
+		}
+	}
+	return 0, 0, false
 }
 
 // row adds a data row, keeping only the cells under the header; a value
@@ -280,8 +403,9 @@ func (b *tableBuilder) row(rec []string, row int) error {
 // byte-order mark is dropped, blank lines are skipped, and a row keeps only
 // the cells under the header: blank cells after the header's last named
 // column are dropped, a value there is an error at its cell
-// (ErrBeyondHeader). A table beyond the limits (see Limits) is an
-// error that says the limit.
+// (ErrBeyondHeader). A quote out of place is an error at the row where
+// its field starts and at that field (see csvSyntaxError). A table beyond
+// the limits (see Limits) is an error that says the limit.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
 	b, err := newTableBuilder(name, "")
 	if err != nil {
@@ -311,7 +435,7 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return nil, &ParseError{File: name, Row: pe.Line, Column: pe.Column, Err: pe.Err}
+				return nil, csvSyntaxError(name, data, 1, b.t.Header, pe)
 			}
 			return nil, &ParseError{File: name, Err: err}
 		}
@@ -396,7 +520,8 @@ func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
 // the first visible sheet, see chooseSheet). Cells are read raw: numbers
-// as written, dates as serials. A value after the header's last named
+// as written, dates as serials; but a boolean cell reads TRUE or FALSE and
+// a percent-formatted number the percent it shows (see inputBook.shown). A value after the header's last named
 // column is an error at its cell (ErrBeyondHeader), as in ParseCSV. Two-cell rows above the header whose
 // first cell is one of MetaKeys are kept in Meta.
 func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
@@ -429,6 +554,7 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 		if blank(rec) {
 			continue
 		}
+		f.shown(sheet, n, rec)
 		if b.t.Header == nil {
 			if k, v, ok := metaRow(rec); ok {
 				if b.t.Meta == nil {
@@ -544,7 +670,10 @@ func (t *Table) Cell(rec Record, col int) string {
 	return rec.Cells[col]
 }
 
-var decimalComma = regexp.MustCompile(`^[-+]?[0-9]*,[0-9]+$`)
+var (
+	decimalComma = regexp.MustCompile(`^[-+]?[0-9]*,[0-9]+$`)
+	thousands    = regexp.MustCompile(`^[-+]?[1-9][0-9]{0,2}(,[0-9]{3})+(\.[0-9]*)?$`)
+)
 
 // Float parses a number cell. Blank cells return ok == false and no error.
 func (t *Table) Float(rec Record, col int) (v float64, ok bool, err error) {
@@ -589,11 +718,43 @@ func (t *Table) number(rec Record, col int, what string, limit float64) (float64
 	return v, err
 }
 
+// percent reads a number cell of a column in percent: a number, which a
+// percent sign may follow, with or without a space (5, 5% and 5 % are
+// all 5). A workbook cell with a percent format reads as the percent it
+// shows (see inputBook.shown). Blank cells return ok == false and no
+// error.
+func (t *Table) percent(rec Record, col int) (v float64, ok bool, err error) {
+	s := t.Cell(rec, col)
+	if s == "" {
+		return 0, false, nil
+	}
+	n := strings.TrimSpace(strings.TrimSuffix(s, "%"))
+	v, perr := ParseNumber(n)
+	if strings.HasSuffix(n, "%") {
+		perr = ErrNotNumber
+	}
+	if perr != nil {
+		return 0, false, t.At(rec, col, perr)
+	}
+	return v, true, nil
+}
+
 // ParseNumber reads a finite decimal number written with a decimal point.
+// A comma is refused: followed by three digits it may be a thousands
+// separator (ErrThousands), else it is a decimal comma (ErrDecimalComma);
+// a percent sign at the end is ErrPercent (only a column in percent takes
+// one, see Table.percent).
 func ParseNumber(s string) (float64, error) {
 	s = strings.TrimSpace(s)
-	if decimalComma.MatchString(s) {
+	switch {
+	case thousands.MatchString(s):
+		return 0, ErrThousands
+	case decimalComma.MatchString(s):
 		return 0, ErrDecimalComma
+	case strings.HasSuffix(s, "%"):
+		if _, err := ParseNumber(strings.TrimSuffix(s, "%")); err == nil {
+			return 0, ErrPercent
+		}
 	}
 	switch strings.ToLower(strings.TrimLeft(s, "+-")) {
 	case "nan", "inf", "infinity":

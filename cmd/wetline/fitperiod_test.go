@@ -217,7 +217,7 @@ func TestFlagTimesOneForm(t *testing.T) {
 		{"2025-07-31T09:00:00.000Z", "2025-07-31T09:00:00Z", ""},
 		{"2025-07-31T09:00:00.5Z", "", "fractions of a second are not kept"},
 		{"45869", "", "not an ISO 8601 date-time"},
-		{"31/07/2025", "", "not an ISO 8601 date-time"},
+		{"31/07/2025", "", "a date written with the day and month as numbers is ambiguous (day-first or month-first): write ISO 8601 (2025-07-31)"},
 	} {
 		for _, off := range []time.Duration{0, 10 * time.Hour} {
 			t.Run(fmt.Sprintf("%s at %v", tc.in, off), func(t *testing.T) {

@@ -1,0 +1,331 @@
+package survey
+
+import (
+	"encoding/csv"
+	"errors"
+	"io"
+	"math"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/xuri/excelize/v2"
+)
+
+// shownBook writes a workbook of one sheet, "g", of gaugings whose
+// uncertainty cells (D2:D5) and first stage cell (B2) carry the number
+// formats given (built-in ids; a custom code when the id is 0), and whose
+// B3 is the boolean TRUE when boolean is set.
+func shownBook(t *testing.T, uncertainty []any, stageFormat string, boolean bool) string {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	f.SetSheetName("Sheet1", "g")
+	rows := [][]any{
+		{"time", "stage (m)", "discharge (m3/s)", "uncertainty"},
+		{"2026-03-02T09:15", 1.1, 2.5, 0.05},
+		{"2026-04-11T14:00", 2.05, 7.6, 0.07},
+		{"2026-05-20T10:30", 0.6, 0.61, 0.08},
+		{"2026-06-30T08:45", 3.4, 16.2, 0.125},
+	}
+	for r, row := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, r+1)
+		if err := f.SetSheetRow("g", cell, &row); err != nil {
+			t.Fatal(err)
+		}
+	}
+	style := func(format any) int {
+		st := &excelize.Style{}
+		switch v := format.(type) {
+		case int:
+			st.NumFmt = v
+		case string:
+			st.CustomNumFmt = &v
+		}
+		id, err := f.NewStyle(st)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return id
+	}
+	for i, format := range uncertainty {
+		cell, _ := excelize.CoordinatesToCellName(4, i+2)
+		if err := f.SetCellStyle("g", cell, cell, style(format)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if stageFormat != "" {
+		if err := f.SetCellStyle("g", "B2", "B2", style(stageFormat)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if boolean {
+		if err := f.SetCellBool("g", "B3", true); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "g.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// A number cell with a percent format is read as the percent a
+// spreadsheet program shows (0.05 formatted 0% shows 5 %, ECMA-376 Part 1,
+// 18.8.30, built-in number formats 9 "0%" and 10 "0.00%", from memory), in
+// the uncertainty column, which is in percent; a cell with no percent
+// format keeps its stored value.
+func TestPercentCellsInPercentColumn(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name    string
+		formats []any
+		want    []float64
+	}{
+		{"built-in 0% and 0.00%", []any{9, 10, 9, 10}, []float64{5, 7, 8, 12.5}},
+		{"custom codes", []any{"0.0%", "0.0 %", `#,##0.00"" %`, "0.0%;-0.0%"}, []float64{5, 7, 8, 12.5}},
+		{"not percent", []any{"0.000", `0.0"%"`, `0.0\%`, 2}, []float64{0.05, 0.07, 0.08, 0.125}},
+	} {
+		path := shownBook(t, tc.formats, "", false)
+		g, err := ReadGaugings(path, "")
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		for i, want := range tc.want {
+			if got := g.Gaugings[i].Uncertainty; math.Abs(got-want) > 1e-12 {
+				t.Errorf("%s: row %d uncertainty %v, want %v", tc.name, i+2, got, want)
+			}
+		}
+	}
+}
+
+// A percent-formatted cell in a number column that is not in percent, and
+// a boolean cell anywhere a number is read, are refused at the cell; a
+// boolean reads TRUE, as shown.
+func TestPercentAndBooleanCellsRefused(t *testing.T) {
+	t.Parallel()
+	path := shownBook(t, nil, "0%", false)
+	_, err := ReadGaugings(path, "")
+	if !errors.Is(err, ErrPercent) || !strings.Contains(err.Error(), `g.xlsx['g']!B2: stage (m) "110%": a percent in a column that is not in percent`) {
+		t.Errorf("percent stage: %v", err)
+	}
+	path = shownBook(t, nil, "", true)
+	_, err = ReadGaugings(path, "")
+	if !errors.Is(err, ErrNotNumber) || !strings.Contains(err.Error(), `g.xlsx['g']!B3: stage (m) "TRUE": not a number`) {
+		t.Errorf("boolean stage: %v", err)
+	}
+	tab, err := ReadTable(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := tab.Cell(tab.Records[1], 1); got != "TRUE" {
+		t.Errorf("boolean cell reads %q, want TRUE", got)
+	}
+}
+
+// The stage record's workbook reader sees cells as shown too.
+func TestBooleanStageRecordCell(t *testing.T) {
+	t.Parallel()
+	f := excelize.NewFile()
+	defer f.Close()
+	for r, row := range [][]any{{"time", "stage"}, {"2026-01-01T00:00:00Z", 1.0}, {"2026-01-01T01:00:00Z", true}} {
+		cell, _ := excelize.CoordinatesToCellName(1, r+1)
+		if err := f.SetSheetRow("Sheet1", cell, &row); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "s.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	_, err := ReadStageRecord(path, StageRecordOptions{})
+	if !errors.Is(err, ErrNotNumber) || !strings.Contains(err.Error(), `['Sheet1']!B3: stage "TRUE"`) {
+		t.Errorf("boolean stage: %v", err)
+	}
+}
+
+// percentShown moves the decimal digits two places, so the percent read is
+// the decimal one shown (7, not 0.07·100 = 7.000000000000001 in binary
+// floating point, IEEE 754 double rounding, from memory).
+func TestPercentShown(t *testing.T) {
+	t.Parallel()
+	for raw, want := range map[string]string{
+		"0.07": "7%", "0.05": "5%", "1": "100%", "0.125": "12.5%", "-0.003": "-0.3%",
+		"1E-3": "0.1%", "0.29": "29%", "x": "x", "": "",
+	} {
+		if got := percentShown(raw); got != want {
+			t.Errorf("percentShown(%q) = %q, want %q", raw, got, want)
+		}
+	}
+}
+
+// The percent number formats: ECMA-376 Part 1, 18.8.31 (numFmt), a
+// percent sign scales by 100 unless quoted or escaped (from memory).
+func TestPercentFormat(t *testing.T) {
+	t.Parallel()
+	for code, want := range map[string]bool{
+		"0%": true, "0.00%": true, "0.0 %": true, "#,##0%;[Red]-#,##0%": true, `0%" of Q"`: true,
+		"0.00": false, `0"%"`: false, `0\%`: false, "@": false, "": false, "0;0%": false,
+	} {
+		if got := percentFormat(code); got != want {
+			t.Errorf("percentFormat(%q) = %v, want %v", code, got, want)
+		}
+	}
+}
+
+// In a CSV file the uncertainty column takes a trailing percent sign, with
+// or without a space; any other number column refuses one.
+func TestCSVPercent(t *testing.T) {
+	t.Parallel()
+	const head = "time,stage (m),discharge (m3/s),uncertainty\n"
+	g, err := ParseGaugings(strings.NewReader(head+"2026-03-02T09:15,1.1,2.5,5%\n2026-04-11T14:00,2.05,7.6,7.5 %\n2026-05-20T10:30,0.6,0.61,8\n"), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []float64{5, 7.5, 8} {
+		if got := g.Gaugings[i].Uncertainty; got != want {
+			t.Errorf("row %d: uncertainty %v, want %v", i+2, got, want)
+		}
+	}
+	for _, tc := range []struct{ body, want string }{
+		{"2026-03-02T09:15,1.1%,2.5,5\n", `g.csv:2:2: stage (m) "1.1%": a percent in a column that is not in percent`},
+		{"2026-03-02T09:15,1.1,2.5,5%%\n", `g.csv:2:4: uncertainty "5%%": not a number`},
+		{"2026-03-02T09:15,1.1,2.5,%\n", `g.csv:2:4: uncertainty "%": not a number`},
+	} {
+		_, err := ParseGaugings(strings.NewReader(head+tc.body), "g.csv")
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%q: %v, want %s", tc.body, err, tc.want)
+		}
+	}
+}
+
+// A comma followed by three digits may be a thousands separator or a
+// decimal comma: refused as either, saying so; other commas are decimal
+// commas.
+func TestNumberCommas(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		s    string
+		want error
+	}{
+		{"2,076", ErrThousands}, {"1,248.5", ErrThousands}, {"-12,345,678", ErrThousands}, {"999,000.", ErrThousands},
+		{"1,5", ErrDecimalComma}, {"0,125", ErrDecimalComma}, {",125", ErrDecimalComma}, {"12,3456", ErrDecimalComma},
+		{"1,2,3", ErrNotNumber}, {"1234,567.8,9", ErrNotNumber},
+	} {
+		if _, err := ParseNumber(tc.s); !errors.Is(err, tc.want) {
+			t.Errorf("ParseNumber(%q): %v, want %v", tc.s, err, tc.want)
+		}
+	}
+	_, err := ParseSection(strings.NewReader("station,elevation\n0,10\n\"1,248.5\",0\n20,10\n"), "xs.csv", SectionOptions{})
+	if !strings.Contains(err.Error(), `xs.csv:3:1: station "1,248.5": looks like a thousands separator`) {
+		t.Errorf("section: %v", err)
+	}
+}
+
+// A date written with slashes or dots is ambiguous (day-first or
+// month-first) and refused as such, giving its ISO 8601 readings.
+func TestDayMonthDates(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct{ s, want string }{
+		{"03/04/2026", "ambiguous (day-first or month-first): write ISO 8601 (2026-04-03 day-first, 2026-03-04 month-first)"},
+		{"03.04.2026 10:00", "(2026-04-03 day-first, 2026-03-04 month-first)"},
+		{"13/04/2026", "write ISO 8601 (2026-04-13)"},
+		{"04/13/2026", "write ISO 8601 (2026-04-13)"},
+		{"5/5/2026", "write ISO 8601 (2026-05-05)"},
+		{"03/04/26", "write ISO 8601 (YYYY-MM-DD, such as 2026-04-03)"},
+	} {
+		_, err := ParseISOTime(tc.s, 0)
+		if !errors.Is(err, ErrAmbiguousDate) || !errors.Is(err, ErrISOTime) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%q: %v, want %s", tc.s, err, tc.want)
+		}
+	}
+	for _, s := range []string{"03/04-2026", "2026/04/03", "3 April 2026"} {
+		if _, err := ParseISOTime(s, 0); errors.Is(err, ErrAmbiguousDate) || !errors.Is(err, ErrISOTime) {
+			t.Errorf("%q: %v, want ErrISOTime alone", s, err)
+		}
+	}
+	_, err := ParseGaugings(strings.NewReader("time,stage,discharge\n03/04/2026,1,2\n"), "g.csv")
+	if !strings.Contains(err.Error(), `g.csv:2:1: time "03/04/2026": ambiguous (day-first or month-first)`) {
+		t.Errorf("gaugings: %v", err)
+	}
+	_, err = ParseStageRecord(strings.NewReader("time,stage\n03/04/2026 10:00,1\n"), "s.csv", StageRecordOptions{})
+	if !errors.Is(err, ErrAmbiguousDate) {
+		t.Errorf("stage record: %v", err)
+	}
+}
+
+// Key lines saved by a spreadsheet program as rows of a wider table keep
+// no trailing empty fields.
+func TestKeyLinesTrailingFields(t *testing.T) {
+	t.Parallel()
+	tab, err := ParseCSV(strings.NewReader("# site: Quillback Run at Fenner ford,,\n# surveyed: 2026-11-03, ,\n# datum: local,,,\n# crew: A. Reed, B. Oduya,,\n# site id: QR-2,\nstation,elevation,,\n0,1,,\n"), "xs.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, want := range map[string]string{"site": "Quillback Run at Fenner ford", "surveyed": "2026-11-03", "datum": "local", "crew": "A. Reed, B. Oduya", "site id": "QR-2"} {
+		if got := tab.Meta[k]; got != want {
+			t.Errorf("%s: %q, want %q", k, got, want)
+		}
+	}
+}
+
+// An error of CSV quoting is placed at the row where the field starts and
+// at its field number, named by the header, the character offset kept in
+// the cause.
+func TestCSVQuoteErrorPlace(t *testing.T) {
+	t.Parallel()
+	table, stages := csvTableErr, csvStagesErr
+	for _, tc := range []struct {
+		name, csv string
+		read      func(string) error
+		want      string
+	}{
+		{"unclosed", "station (ft),elevation (ft),n\n0,10,0.035\n0,0,0.035\n20,\"0\n20,10,0.035\n", table,
+			`t.csv:4:2: elevation (ft): extraneous or missing " in quoted-field (at character 13 of line 5)`},
+		{"bare", "station,elevation,n\n0,10,0.035\n0,a\"b,0.035\n", table,
+			`t.csv:3:2: elevation: bare " in non-quoted-field (at character 4 of line 3)`},
+		{"extraneous", "station,elevation,n\n0,10,\"0.03\"5\n", table,
+			`t.csv:2:3: n: extraneous or missing " in quoted-field (at character 11 of line 2)`},
+		{"in header", "station,\"elev\"ation\n0,1\n", table,
+			`t.csv:1:2: extraneous or missing " in quoted-field (at character 14 of line 1)`},
+		{"stage record", "time,stage\n2026-01-01T00:00,1\n2026-01-01T01:00,\"1\n", stages,
+			`t.csv:3:2: stage: extraneous or missing " in quoted-field`},
+	} {
+		err := tc.read(tc.csv)
+		if err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: %v, want %s", tc.name, err, tc.want)
+		}
+	}
+}
+
+// The place given for a CSV syntax error lies within the record
+// encoding/csv reports it in: from its first line to the line of the
+// fault, at a field number of at least 1.
+func FuzzCSVSyntaxError(f *testing.F) {
+	for _, s := range []string{"a,b\n1,\"2\n3,4\n", "a,b\n1,x\"y\n", "a,\"b\"c\n", "\"a\nb\"\"\"x,1\n", "a,b\r\n 1, \"2\"3\r\n"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		cr := csv.NewReader(strings.NewReader(s))
+		cr.Comment, cr.FieldsPerRecord, cr.TrimLeadingSpace = '#', -1, true
+		for {
+			_, err := cr.Read()
+			if err == io.EOF {
+				return
+			}
+			var pe *csv.ParseError
+			if !errors.As(err, &pe) {
+				if err != nil {
+					return
+				}
+				continue
+			}
+			e := csvSyntaxError("t.csv", []byte(s), 1, []string{"a", "b"}, pe)
+			if e.Row < pe.StartLine || e.Row > pe.Line || e.Column < 0 || !errors.Is(e, pe.Err) {
+				t.Fatalf("%v placed at row %d column %d", pe, e.Row, e.Column)
+			}
+			return
+		}
+	})
+}
