@@ -92,7 +92,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
 	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file)")
 	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
-	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default: UTC, and a time written with an offset keeps it)")
+	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default UTC)")
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)

@@ -104,8 +104,8 @@ func TestFitOffsetFlag(t *testing.T) {
 // TestFitReportsAtOffset: with --utc-offset every report of fit gives the
 // gaugings' times at that offset (RFC 3339 with it in text, CSV and JSON;
 // the wall clock there in a workbook's date cells, the summary naming the
-// zone), whatever offset each was written with; without it each time keeps
-// the offset it was written with. (A file gives every time with an offset
+// zone), whatever offset each was written with; without it every time is
+// in UTC, as shifts and record give theirs. (A file gives every time with an offset
 // or none.) By hand: 23:00Z is 09:00+10:00 the next day; 00:00Z is
 // 10:00+10:00; 12:00−05:00 is 17:00Z, 03:00+10:00 the next day.
 func TestFitReportsAtOffset(t *testing.T) {
@@ -122,7 +122,7 @@ func TestFitReportsAtOffset(t *testing.T) {
 		t.Fatal(err)
 	}
 	local := []string{"2025-07-31T09:00:00+10:00", "2025-08-01T10:00:00+10:00", "2025-08-03T03:00:00+10:00"}
-	asRead := []string{"2025-07-30T23:00:00Z", "2025-08-01T00:00:00Z", "2025-08-02T12:00:00-05:00"}
+	inUTC := []string{"2025-07-30T23:00:00Z", "2025-08-01T00:00:00Z", "2025-08-02T17:00:00Z"}
 	fit := func(extra ...string) string {
 		t.Helper()
 		out, errs, code := runCLI(t, append([]string{"fit", gaugings}, extra...)...)
@@ -140,15 +140,15 @@ func TestFitReportsAtOffset(t *testing.T) {
 		{"text", fit("--method", "lsq", "--utc-offset", "+10:00"), append([]string{"6 measurements, si units; times in UTC+10:00"}, local...)},
 		{"csv", fit(append(compare, "--utc-offset", "+10:00")...), local},
 		{"json", fit("--method", "lsq", "--utc-offset", "+10:00", "--format", "json"), local},
-		{"text as read", fit("--method", "lsq"), asRead},
-		{"csv as read", fit(compare...), asRead},
+		{"text in UTC", fit("--method", "lsq"), inUTC},
+		{"csv in UTC", fit(compare...), inUTC},
 	} {
 		for _, w := range tc.want {
 			if !strings.Contains(strings.ReplaceAll(tc.out, " ", ""), strings.ReplaceAll(w, " ", "")) {
 				t.Errorf("%s: no %s in\n%s", tc.name, w, tc.out)
 			}
 		}
-		if strings.HasSuffix(tc.name, "as read") && strings.Contains(tc.out, "+10:00") {
+		if strings.HasSuffix(tc.name, "in UTC") && strings.Contains(tc.out, "+10:00") {
 			t.Errorf("%s: a time at +10:00 without --utc-offset", tc.name)
 		}
 	}

@@ -26,13 +26,10 @@ type Selection struct {
 }
 
 // TimeText writes t as RFC 3339 at offset from UTC (east positive); a zero
-// offset, none chosen, writes t with the offset it was read with (Z for
-// UTC).
+// offset, none chosen, writes t in UTC (Z), whatever offset it was read
+// with, as the reports of shifts and record do.
 func TimeText(t time.Time, offset time.Duration) string {
-	if offset != 0 {
-		t = t.In(zone(offset))
-	}
-	return t.Format(time.RFC3339)
+	return t.In(zone(offset)).Format(time.RFC3339)
 }
 
 // Reasons a gauging is left out, as shown in reports.

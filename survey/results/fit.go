@@ -32,8 +32,7 @@ func ComparisonColumns() []string {
 
 // GaugingTimeLayout is how gauging times are written: RFC 3339 with the
 // report's UTC offset when one was chosen (gauged.Report.UTCOffset), else
-// with the gauging's own (Z for UTC), the form --period and --exclude take,
-// so that times of different offsets stay comparable (gauged.TimeText).
+// in UTC (Z), the form --period and --exclude take (gauged.TimeText).
 const GaugingTimeLayout = time.RFC3339
 
 // WriteFitCSV writes the table of a fit (FitTableColumns()), or, in

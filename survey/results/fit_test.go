@@ -244,14 +244,15 @@ func TestWriteFitWorkbookBandsPosterior(t *testing.T) {
 	}
 }
 
-// Every gauging time of a fit is written with its UTC offset, as RFC 3339
-// gives it (Z for UTC), in the text (the rows and the reasons of those
-// left out) and in the JSON, so that what is shown can be given back to
+// With no UTC offset chosen, every gauging time of a fit is written in
+// UTC, as RFC 3339 gives it (Z), whatever offset it was read with, in the
+// text (the rows and the reasons of those left out) and in the JSON, as
+// shifts and record write theirs; what is shown can be given back to
 // --exclude. Gaugings of Q = 8·(h − 0.3)^2 (invented), the fourth at
-// 2024-03-05T09:00+10:00, written 2024-03-05T09:00:00+10:00 (RFC 3339,
-// seconds included) and left out by its text; the others at 09:00 UTC on
-// the first of each month, the first written 2024-01-01T09:00:00Z.
-func TestFitGaugingTimesCarryOffset(t *testing.T) {
+// 2024-03-05T09:00+10:00, written 2024-03-04T23:00:00Z (RFC 3339, seconds
+// included) and left out by its text; the others at 09:00 UTC on the first
+// of each month, the first written 2024-01-01T09:00:00Z.
+func TestFitGaugingTimesInUTC(t *testing.T) {
 	east := time.FixedZone("", 10*3600)
 	var gs []gauged.Gauging
 	for i := range 10 {
@@ -268,7 +269,7 @@ func TestFitGaugingTimesCarryOffset(t *testing.T) {
 	if err := results.WriteFitText(&text, rep); err != nil {
 		t.Fatal(err)
 	}
-	for _, w := range []string{"  2024-03-05T09:00:00+10:00 ", "  2024-01-01T09:00:00Z ", "x 2024-03-05T09:00:00+10:00: weed on the control"} {
+	for _, w := range []string{"  2024-03-04T23:00:00Z ", "  2024-01-01T09:00:00Z ", "x 2024-03-04T23:00:00Z: weed on the control"} {
 		if !strings.Contains(text.String(), w) {
 			t.Errorf("text lacks %q:\n%s", w, text.String())
 		}
@@ -284,7 +285,7 @@ func TestFitGaugingTimesCarryOffset(t *testing.T) {
 	if err := json.Unmarshal(js.Bytes(), &doc); err != nil {
 		t.Fatal(err)
 	}
-	if len(doc.Gaugings) != len(gs) || doc.Gaugings[0].Time != "2024-01-01T09:00:00Z" || doc.Gaugings[3].Time != "2024-03-05T09:00:00+10:00" {
+	if len(doc.Gaugings) != len(gs) || doc.Gaugings[0].Time != "2024-01-01T09:00:00Z" || doc.Gaugings[3].Time != "2024-03-04T23:00:00Z" {
 		t.Errorf("JSON gauging times %+v", doc.Gaugings)
 	}
 }
