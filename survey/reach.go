@@ -547,15 +547,7 @@ func (r *Reach) ResolveUnits(u rating.Units, given bool) (rating.Units, error) {
 	if given {
 		return r.Units.Resolve(u, given)
 	}
-	src := UnitSource{File: Position(r.File, r.Sheet), Note: r.Units}
-	for _, sv := range r.Surveys {
-		if src.Note.Found {
-			break
-		}
-		if sv.Units.Found {
-			src = UnitSource{File: Position(sv.File, sv.Sheet), Note: sv.Units}
-		}
-	}
+	src := r.unitSource()
 	if !src.Note.Found {
 		return u, nil
 	}
@@ -565,6 +557,41 @@ func (r *Reach) ResolveUnits(u rating.Units, given bool) (rating.Units, error) {
 		}
 	}
 	return src.Units(), nil
+}
+
+// unitSource is the input whose headers set the reach's units: the reach
+// table when they name a unit, else its first survey that does (Note not
+// Found when none does).
+func (r *Reach) unitSource() UnitSource {
+	src := UnitSource{File: Position(r.File, r.Sheet), Note: r.Units}
+	for _, sv := range r.Surveys {
+		if src.Note.Found {
+			break
+		}
+		if sv.Units.Found {
+			src = UnitSource{File: Position(sv.File, sv.Sheet), Note: sv.Units}
+		}
+	}
+	return src
+}
+
+// AgreeBoundary checks that a boundary rating read for the reach is in
+// the reach's unit system u (from ResolveUnits). With units given
+// (--units), headers naming others are refused (ErrUnitsDisagree at the
+// column). Otherwise the rules of UnitSource.Agree hold between the input
+// that set the reach's units and the rating: a rating naming no unit is
+// in si units, so beside a reach in us units it is ErrUnitsUnnamed, and a
+// rating in us units beside a reach naming no unit likewise.
+func (r *Reach) AgreeBoundary(br BoundaryRating, u rating.Units, given bool) error {
+	if given {
+		_, err := br.Units.Resolve(u, true)
+		return err
+	}
+	if src := r.unitSource(); src.Note.Found {
+		return src.Agree(Position(br.File, br.Sheet), br.Units)
+	}
+	rt := UnitSource{File: Position(br.File, br.Sheet), Note: br.Units}
+	return rt.Agree(Position(r.File, r.Sheet), UnitNote{})
 }
 
 // ReachSections compiles each section's survey for the reach methods in
@@ -663,6 +690,9 @@ type BoundaryRating struct {
 	// Warnings are unusual but legal facts about where it was read (a
 	// hidden sheet).
 	Warnings []string
+	// Units is what the stage and discharge headers say of the unit
+	// system (see Reach.AgreeBoundary).
+	Units UnitNote
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or
@@ -695,6 +725,9 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 	}
 	cq, err := t.Require(ColRatingDischarge)
 	if err != nil {
+		return out, err
+	}
+	if out.Units, err = t.HeaderUnits(cs, cq); err != nil {
 		return out, err
 	}
 	var errs errorList

@@ -306,6 +306,9 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		if err != nil {
 			return rep, err
 		}
+		if err := rt.AgreeBoundary(br, opt.Backwater.Units, unitsGiven); err != nil {
+			return rep, err
+		}
 		b.Rating = br.Points
 		inputs = append(inputs, bfile)
 		warnings = br.Warnings

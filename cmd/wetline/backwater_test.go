@@ -402,3 +402,46 @@ func TestBackwaterRatingFeedsFit(t *testing.T) {
 		}
 	}
 }
+
+// A boundary rating is held to the reach's unit system as every other
+// input is: the demo sections name no unit, so they are in si units, and
+// a rating whose headers say feet beside them is refused, naming the
+// rating's column; one in metres or naming no unit is read. With --units
+// us the sections take feet, and a rating in metres is refused.
+func TestBackwaterBoundaryUnits(t *testing.T) {
+	t.Parallel()
+	path := bwPlain(t)
+	rows := "100.5,1\n101,6\n101.5,15\n102,40\n103,100\n"
+	for _, c := range []struct {
+		name, header string
+		extra        []string
+		code         int
+		want         []string
+	}{
+		{"feet beside si", "stage (ft),discharge (cfs)", nil, 1, []string{"ft.csv:1:1", survey.ErrUnitsUnnamed.Error()}},
+		{"metres", "stage (m),discharge (m3/s)", nil, 0, nil},
+		{"no unit", "stage,discharge", nil, 0, nil},
+		{"metres with --units us", "stage (m),discharge (m3/s)", []string{"--units", "us"}, 1, []string{"metres-with---units-us.csv:1:1", survey.ErrUnitsDisagree.Error()}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			name := strings.ReplaceAll(c.name, " ", "-")
+			if c.name == "feet beside si" {
+				name = "ft"
+			}
+			table := filepath.Join(filepath.Dir(path), name+".csv")
+			if err := os.WriteFile(table, []byte(c.header+"\n"+rows), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			args := append([]string{"backwater", path, "--discharges", "5,20", "--boundary", "rating:" + table, "--at", "XS-1"}, c.extra...)
+			_, errs, code := runCLI(t, args...)
+			if code != c.code {
+				t.Fatalf("exit %d, want %d: %s", code, c.code, errs)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(errs, w) {
+					t.Errorf("error lacks %q:\n%s", w, errs)
+				}
+			}
+		})
+	}
+}
