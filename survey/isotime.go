@@ -40,6 +40,23 @@ func (e *dayMonthError) Error() string {
 
 func (e *dayMonthError) Unwrap() []error { return []error{ErrAmbiguousDate, ErrISOTime} }
 
+// slashDate reports whether b, leading spaces dropped, has a slash or a
+// dot as its second or third byte, as a day/month/year date has: the cheap
+// test before dayMonth's pattern, which most texts (date serials of
+// workbook cells among them) then skip.
+func slashDate[T string | []byte](b T) bool {
+	i := 0
+	for i < len(b) && b[i] == ' ' {
+		i++
+	}
+	for _, j := range []int{i + 1, i + 2} {
+		if j < len(b) && (b[j] == '/' || b[j] == '.') {
+			return true
+		}
+	}
+	return false
+}
+
 // dayMonth returns a *dayMonthError when s starts as a date written
 // day/month/year or month/day/year (slashes or dots, one separator), nil
 // otherwise. With a four-digit year the error gives the ISO 8601 date of
@@ -183,8 +200,10 @@ func instant(sec, zone int64, zoned bool) time.Time {
 func parseISOZone[T string | []byte](b T, off int64) (sec, zone int64, zoned bool, err error) {
 	n := len(b)
 	if n < 10 || b[4] != '-' || b[7] != '-' {
-		if err := dayMonth(string(b)); err != nil {
-			return 0, 0, false, err
+		if slashDate(b) {
+			if err := dayMonth(string(b)); err != nil {
+				return 0, 0, false, err
+			}
 		}
 		return 0, 0, false, ErrISOTime
 	}

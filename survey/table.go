@@ -746,10 +746,11 @@ func (t *Table) percent(rec Record, col int) (v float64, ok bool, err error) {
 // one, see Table.percent).
 func ParseNumber(s string) (float64, error) {
 	s = strings.TrimSpace(s)
+	comma := strings.IndexByte(s, ',') >= 0 // the patterns need one: most cells skip them
 	switch {
-	case thousands.MatchString(s):
+	case comma && thousands.MatchString(s):
 		return 0, ErrThousands
-	case decimalComma.MatchString(s):
+	case comma && decimalComma.MatchString(s):
 		return 0, ErrDecimalComma
 	case strings.HasSuffix(s, "%"):
 		if _, err := ParseNumber(strings.TrimSuffix(s, "%")); err == nil {

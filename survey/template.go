@@ -77,11 +77,14 @@ func SuggestedMarks() []string {
 const (
 	templateNMin = 0.005 // lowest Manning's n accepted without a warning
 	templateNMax = 1.0   // highest Manning's n accepted without a warning
-	// templateTimeMax is the date serial of the last second of MaxYear
-	// (2200-12-31T23:59:59): 109 940 days from serial 0 (1899-12-30) to
-	// 2201-01-01, less a second.
-	templateTimeMax = 109940 - 1.0/86400
 )
+
+// templateTimeMax is the date serial of the last second of MaxYear
+// (2200-12-31T23:59:59, serial 109 940 less a second): the days from
+// serial 0 (1899-12-30) to the first day after MaxYear, less a second.
+func templateTimeMax() float64 {
+	return float64(daysFromCivil(MaxYear+1, 1, 1)-daysFromCivil(1899, 12, 30)) - 1.0/86400
+}
 
 // WriteTemplate writes a blank field workbook to w: cross-section sheets
 // XS-1 … XS-n (station, elevation, n, mark, note), a coordinate sheet
@@ -361,7 +364,7 @@ const templateOpenEnd = 1e-9 // percent
 func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	L, Q := u.Length(), u.Discharge()
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: ColGaugingTime, Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: templateTimeMax, Title: "check the date",
+		{Column: workbook.Column{Name: ColGaugingTime, Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: templateTimeMax(), Title: "check the date",
 			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
 		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000", Width: 12}, Rule: elevationRule(L, "a gauge height"), Help: "mean gauge height during the measurement"},
 		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,

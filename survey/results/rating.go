@@ -175,10 +175,6 @@ func ratingJSONRow(r rating.Row) jsonRow {
 	return jr
 }
 
-// writeMainColumnsText writes the main columns of a rating table
-// (RatingColumns()) aligned for a console, with their units under the
-// names and each row's flags at its end: depths and stages, α and the
-// Froude number to three decimals, the rest to four significant digits.
 // stageDecimals returns the decimals a table's stages and depths are shown
 // with in text and workbooks: three, or as many as the stages need (up to
 // LengthDecimals, as the CSV writes them) so that no two stages read alike.
@@ -190,6 +186,10 @@ func stageDecimals(t rating.Table) int {
 	return max(3, lengthDecimals(stages...))
 }
 
+// writeMainColumnsText writes the main columns of a rating table
+// (RatingColumns()) aligned for a console, with their units under the
+// names and each row's flags at its end: depths and stages, α and the
+// Froude number to three decimals, the rest to four significant digits.
 func writeMainColumnsText(w io.Writer, t rating.Table) {
 	u := t.Units
 	head := []string{"stage", "depth", "area", "wet.perim", "top width", "hyd.radius", "conveyance", "discharge", "velocity", "alpha", "Froude"}
