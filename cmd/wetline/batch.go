@@ -107,9 +107,10 @@ func untouched(f *rateFlags) string {
 func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs []batch.Job, opt batch.Options) (batch.Summary, string, error) {
 	var sum batch.Summary
 	var err error
+	// A failed section fails the run, and run discards what a failed run
+	// wrote: commit only a clean batch.
 	commit := func() error {
 		if sum.Failed > 0 {
-			e.files.Discard()
 			return nil
 		}
 		return e.files.Commit()

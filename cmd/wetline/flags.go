@@ -8,10 +8,12 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/spf13/pflag"
 
 	"wetline/rating"
+	"wetline/rating/record"
 	"wetline/survey/output"
 )
 
@@ -206,7 +208,7 @@ func (fs *flagSet) help(w io.Writer) error {
 			// a zero standing for a default said in words, for "not given",
 			// or of a value that is no number (an offset: UTC)
 		case f.Value.Type() == "duration":
-			def = fmt.Sprintf(" (default %s)", shortDuration(f.DefValue))
+			def = fmt.Sprintf(" (default %s)", helpDuration(f.DefValue))
 		default:
 			def = fmt.Sprintf(" (default %s)", f.DefValue)
 		}
@@ -234,16 +236,14 @@ func isNumber(f *pflag.Flag) bool {
 	return argName(f.Value.Type()) == "NUM" || f.Value.Type() == "duration"
 }
 
-// shortDuration writes a duration as time.Duration.String does without its
-// zero trailing units: 2h0m0s is 2h, 1h30m0s 1h30m, 10m0s 10m.
-func shortDuration(s string) string {
-	if strings.HasSuffix(s, "m0s") {
-		s = strings.TrimSuffix(s, "0s")
+// helpDuration writes a duration flag's default as reports write
+// durations (record.FormatDuration): 2h, not 2h0m0s.
+func helpDuration(def string) string {
+	d, err := time.ParseDuration(def)
+	if err != nil {
+		return def
 	}
-	if strings.HasSuffix(s, "h0m") {
-		s = strings.TrimSuffix(s, "0m")
-	}
-	return s
+	return record.FormatDuration(d)
 }
 
 // argName names a flag's argument in help by its type.

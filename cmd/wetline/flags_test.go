@@ -170,8 +170,8 @@ func TestHelpDurations(t *testing.T) {
 	t.Parallel()
 	for _, c := range [][2]string{{"2h0m0s", "2h"}, {"12h0m0s", "12h"}, {"1h30m0s", "1h30m"}, {"10m0s", "10m"},
 		{"1h0m5s", "1h0m5s"}, {"45s", "45s"}, {"0s", "0s"}, {"1.5s", "1.5s"}} {
-		if got := shortDuration(c[0]); got != c[1] {
-			t.Errorf("shortDuration(%q) = %q, want %q", c[0], got, c[1])
+		if got := helpDuration(c[0]); got != c[1] {
+			t.Errorf("helpDuration(%q) = %q, want %q", c[0], got, c[1])
 		}
 	}
 	for cmd, want := range map[string]string{"record": "(default 2h)\n", "shifts": "(default 12h)\n"} {
