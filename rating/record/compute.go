@@ -268,22 +268,16 @@ func (res *Result) uses(r *gauged.Rater) {
 // of zero flow, and those far below the rating table's lowest row: the
 // marks of a logger's missing-value code (such as -9999) read as a stage.
 type lowReadings struct {
-	below, far int     // readings below zero flow; far below the table
-	lowest     float64 // the lowest gauge height of those below zero flow
-	lowestAt   int64   // its time
-	farLowest  float64 // the lowest of those far below
-	farAt      int64   // its time
-	farTable   string  // the rating table of that reading
-	farFloor   float64 // its lowest row's stage
-	farRange   float64 // its stage range
+	below    int     // readings below zero flow
+	lowest   float64 // the lowest gauge height of those below zero flow
+	lowestAt int64   // its time
 }
 
 // take counts reading h at time t, rated by v on the table rt (nil without a
 // rating). A reading is below zero flow when its effective gauge height is
 // strictly below the table's zero-flow stage (at it, zero flow is the true
-// discharge); it is far below when its effective gauge height lies below
-// the table's lowest row by more than the table's whole stage range (see
-// FarBelowTable).
+// discharge). Readings far below the table (FarBelowTable) never come
+// here: withoutMissingCodes has left them out.
 func (l *lowReadings) take(t int64, h float64, v gauged.Rated, rt *gauged.TableRating) {
 	if rt == nil {
 		return
@@ -293,13 +287,6 @@ func (l *lowReadings) take(t int64, h float64, v gauged.Rated, rt *gauged.TableR
 			l.lowest, l.lowestAt = h, t
 		}
 		l.below++
-	}
-	lo, hi := rt.Range()
-	if span := hi - lo; v.Effective < lo-FarBelowTable*span {
-		if l.far == 0 || h < l.farLowest {
-			l.farLowest, l.farAt, l.farTable, l.farFloor, l.farRange = h, t, rt.Name(), lo, span
-		}
-		l.far++
 	}
 }
 
@@ -319,12 +306,6 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 		warnings = append(warnings, fmt.Sprintf("%d of %d readings lie below the gauge height of zero flow of their rating and are rated 0 "+
 			"(the lowest %g at %s): a reading far below zero flow may be a logger's missing-value code, which pulls daily means down; "+
 			"leave the stage of a missing reading blank", l.below, n, l.lowest, at(l.lowestAt)))
-	}
-	if l.far > 0 {
-		warnings = append(warnings, fmt.Sprintf("%d of %d readings lie below the lowest row of their rating table by more than the table's "+
-			"whole stage range (the lowest %g at %s, under %q whose rows span %g to %g): these are almost surely a missing-value code "+
-			"(such as -9999) or a sensor fault, not water levels; remove them or leave their stage blank",
-			l.far, n, l.farLowest, at(l.farAt), l.farTable, l.farFloor, l.farFloor+l.farRange))
 	}
 	return warnings
 }
@@ -346,21 +327,23 @@ func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages
 		lo, hi := rt.Range()
 		return !(v.Effective < lo-FarBelowTable*(hi-lo))
 	}
-	first := -1
+	drop := make([]bool, len(st.Time)) // each reading rated once here
+	first, n := -1, 0
 	for i := range st.Time {
 		if !keep(i) {
-			first = i
-			break
+			drop[i] = true
+			if first < 0 {
+				first = i
+			}
+			n++
 		}
 	}
 	if first < 0 {
 		return st, ""
 	}
 	out := &Stages{Name: st.Name, Qualities: st.Qualities}
-	n := 0
 	for i := range st.Time {
-		if !keep(i) {
-			n++
+		if drop[i] {
 			continue
 		}
 		out.Time = append(out.Time, st.Time[i])
