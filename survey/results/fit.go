@@ -7,7 +7,6 @@ import (
 	"math"
 	"sort"
 	"strings"
-	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -29,11 +28,6 @@ func ComparisonColumns() []string {
 	return []string{"time", "stage", "discharge", "quality", "rated", "departure_percent", "shift",
 		"outside_band", "factor_on_n", "n", "source", "uncertainty_percent", "exclude"}
 }
-
-// GaugingTimeLayout is how gauging times are written: RFC 3339 with the
-// report's UTC offset when one was chosen (gauged.Report.UTCOffset), else
-// in UTC (Z), the form --period and --exclude take (gauged.TimeText).
-const GaugingTimeLayout = time.RFC3339
 
 // WriteFitCSV writes the table of a fit (FitTableColumns()), or, in
 // comparison-only mode, the gaugings against the hydraulic rating
