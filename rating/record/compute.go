@@ -191,7 +191,7 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	st, codes := withoutMissingCodes(st, r, zone(off))
+	st, rated, codes := withoutMissingCodes(st, r, zone(off))
 	res := &Result{
 		Name: st.Name, Units: make([]UnitValue, len(st.Time)), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
@@ -202,7 +202,7 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 		res.Warnings = append(res.Warnings, codes)
 	}
 	c := newCounter(res, st, off)
-	res.unitValues(st, r, maxGap, c)
+	res.unitValues(st, rated, r, maxGap, c)
 	c.integrate(st, r, maxGap)
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)
@@ -310,38 +310,36 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 	return warnings
 }
 
-// withoutMissingCodes returns st without the readings that lie below the
-// lowest row of their rating table by more than FarBelowTable times the
-// table's stage range: missing-value codes, left out as a blank stage is,
-// so that they add nothing to the means and leave their day's coverage
-// short. The warning, "" when there are none, counts them and names the
-// first.
-func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, string) {
-	keep := func(i int) bool {
-		t, h := st.Time[i], st.Stage[i]
-		v := r.AtUnix(t, h, false)
-		rt := r.Rating(v.Period)
-		if rt == nil {
-			return true
-		}
-		lo, hi := rt.Range()
-		return !(v.Effective < lo-FarBelowTable*(hi-lo))
-	}
-	drop := make([]bool, len(st.Time)) // each reading rated once here
+// withoutMissingCodes rates every reading of st once and returns the
+// readings that do not lie below the lowest row of their rating table by
+// more than FarBelowTable times the table's stage range, with their rated
+// values. Those far below are missing-value codes, left out as a blank
+// stage is, so that they add nothing to the means and leave their day's
+// coverage short. The warning, "" when there are none, counts them and
+// names the first.
+func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []gauged.Rated, string) {
+	rated := make([]gauged.Rated, len(st.Time))
+	drop := make([]bool, len(st.Time))
 	first, n := -1, 0
-	for i := range st.Time {
-		if !keep(i) {
-			drop[i] = true
-			if first < 0 {
-				first = i
+	for i, t := range st.Time {
+		v := r.AtUnix(t, st.Stage[i], false)
+		rated[i] = v
+		if rt := r.Rating(v.Period); rt != nil {
+			lo, hi := rt.Range()
+			if v.Effective < lo-FarBelowTable*(hi-lo) {
+				drop[i] = true
+				if first < 0 {
+					first = i
+				}
+				n++
 			}
-			n++
 		}
 	}
 	if first < 0 {
-		return st, ""
+		return st, rated, ""
 	}
 	out := &Stages{Name: st.Name, Qualities: st.Qualities}
+	kept := rated[:0]
 	for i := range st.Time {
 		if drop[i] {
 			continue
@@ -351,18 +349,20 @@ func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages
 		if st.Quality != nil {
 			out.Quality = append(out.Quality, st.Quality[i])
 		}
+		kept = append(kept, rated[i])
 	}
-	return out, fmt.Sprintf("%d reading(s) lie below the lowest row of their rating table by more than the table's whole stage range "+
+	return out, kept, fmt.Sprintf("%d reading(s) lie below the lowest row of their rating table by more than the table's whole stage range "+
 		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings", n, st.Stage[first],
 		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
 }
 
-// unitValues rates every reading.
-func (res *Result) unitValues(st *Stages, r *gauged.Rater, maxGap int64, c *counter) {
+// unitValues makes the unit value of every reading of st from its rated
+// value (rated[i] is reading i's).
+func (res *Result) unitValues(st *Stages, rated []gauged.Rated, r *gauged.Rater, maxGap int64, c *counter) {
 	var low lowReadings
 	for i, t := range st.Time {
 		h := st.Stage[i]
-		v := r.AtUnix(t, h, false)
+		v := rated[i]
 		low.take(t, h, v, r.Rating(v.Period))
 		u := UnitValue{Time: t, Stage: h, Shift: v.Shift, Effective: v.Effective, Discharge: v.Discharge, Period: int32(v.Period)}
 		if st.Quality != nil {
