@@ -92,6 +92,17 @@ type sheetScan struct {
 // what the scan of each sheet found (sheets with nothing to tell are
 // left out).
 func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
+	zr, err := checkZipDirectory(r, size)
+	if err != nil {
+		return nil, err
+	}
+	return scanEverySheet(zr, percentStyles(zr))
+}
+
+// checkZipDirectory checks a workbook's size, its zip signature and the
+// sizes its zip directory claims, as CheckWorkbookZip tells, and returns
+// the archive; it reads no sheet.
+func checkZipDirectory(r io.ReaderAt, size int64) (*zip.Reader, error) {
 	if size > MaxWorkbookBytes {
 		return nil, fmt.Errorf("%w: larger than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 	}
@@ -116,10 +127,21 @@ func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
 			return nil, fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 		}
 	}
-	percent := percentStyles(zr)
+	return zr, nil
+}
+
+// isWorksheetPart reports a zip entry that holds a worksheet.
+func isWorksheetPart(name string) bool {
+	return strings.HasPrefix(name, "xl/worksheets/") && strings.HasSuffix(name, ".xml")
+}
+
+// scanEverySheet scans every worksheet part of an archive (percent is
+// percentStyles') and returns, by sheet name, what was found in the
+// sheets with something to tell.
+func scanEverySheet(zr *zip.Reader, percent map[int64]bool) (map[string]sheetScan, error) {
 	byPart := map[string]sheetScan{}
 	for _, f := range zr.File {
-		if strings.HasPrefix(f.Name, "xl/worksheets/") && strings.HasSuffix(f.Name, ".xml") {
+		if isWorksheetPart(f.Name) {
 			sc, err := scanSheet(f, percent)
 			if err != nil {
 				return nil, err
@@ -143,6 +165,78 @@ func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
 		}
 	}
 	return out, nil
+}
+
+// sheetScanner scans the sheets of a workbook's archive as they are read,
+// each once: reading one sheet of a workbook costs the scan of that sheet
+// alone, however large the others are.
+type sheetScanner struct {
+	zr      *zip.Reader
+	percent map[int64]bool       // percentStyles', read with the first sheet
+	styled  bool                 // percent has been read
+	parts   map[string]*zip.File // sheet name to its part, found with the first sheet
+	every   map[string]sheetScan // scanEverySheet's, when parts could not be found
+	done    map[string]sheetScan // the sheets scanned, by name
+}
+
+// scan returns what the scan of sheet found (see scanSheet), scanning it
+// the first time. When the workbook's relationships do not name the
+// sheets' parts, every sheet is scanned as checkWorkbookZip does. A sheet
+// with no part of its own has nothing to tell.
+func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
+	if sc, ok := s.done[sheet]; ok {
+		return sc, nil
+	}
+	if !s.styled {
+		s.percent, s.styled = percentStyles(s.zr), true
+	}
+	if s.parts == nil && s.every == nil {
+		if err := s.findParts(); err != nil {
+			return sheetScan{}, err
+		}
+	}
+	var sc sheetScan
+	if s.every != nil {
+		sc = s.every[sheet]
+	} else if f := s.parts[sheet]; f != nil {
+		var err error
+		if sc, err = scanSheet(f, s.percent); err != nil {
+			return sheetScan{}, err
+		}
+	}
+	if s.done == nil {
+		s.done = map[string]sheetScan{}
+	}
+	s.done[sheet] = sc
+	return sc, nil
+}
+
+// findParts finds the part of every sheet, or when the relationships do
+// not tell them, scans every sheet at once.
+func (s *sheetScanner) findParts() error {
+	names, err := sheetParts(s.zr)
+	if err != nil {
+		every, err := scanEverySheet(s.zr, s.percent)
+		if err != nil {
+			return err
+		}
+		s.every = every
+		if s.every == nil {
+			s.every = map[string]sheetScan{}
+		}
+		return nil
+	}
+	files := map[string]*zip.File{}
+	for _, f := range s.zr.File {
+		if isWorksheetPart(f.Name) {
+			files[f.Name] = f
+		}
+	}
+	s.parts = map[string]*zip.File{}
+	for name, part := range names {
+		s.parts[name] = files[part]
+	}
+	return nil
 }
 
 // ErrNotWorkbook is the cause of a file read as a workbook that is not a

@@ -180,3 +180,79 @@ func FuzzScanSheet(f *testing.F) {
 		}
 	})
 }
+
+// Each sheet is scanned when it is read: a sheet whose rows are out of
+// order is refused at that sheet, and the other sheets of the workbook
+// still read.
+func TestRowOrderPerSheet(t *testing.T) {
+	t.Parallel()
+	f := excelize.NewFile()
+	defer f.Close()
+	f.SetSheetName("Sheet1", "good")
+	f.NewSheet("bad")
+	for _, s := range []string{"good", "bad"} {
+		f.SetSheetRow(s, "A1", &[]any{"station", "elevation"})
+		f.SetSheetRow(s, "A2", &[]any{0, 3})
+		f.SetSheetRow(s, "A3", &[]any{1, 0})
+		f.SetSheetRow(s, "A4", &[]any{2, 3})
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	data := rewriteZip(t, buf.Bytes(), func(name string, b []byte) []byte {
+		if name != "xl/worksheets/sheet2.xml" {
+			return b
+		}
+		return bytes.Replace(b, []byte(`<row r="4"`), []byte(`<row r="2"`), 1)
+	})
+	p := filepath.Join(t.TempDir(), "two.xlsx")
+	if err := os.WriteFile(p, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ReadSection(p, "good", SectionOptions{}); err != nil {
+		t.Errorf("good sheet: %v", err)
+	}
+	_, err := ReadSection(p, "bad", SectionOptions{})
+	if !errors.Is(err, ErrRowOrder) || !strings.Contains(err.Error(), "two.xlsx['bad']") {
+		t.Errorf("bad sheet: %v, want ErrRowOrder at two.xlsx['bad']", err)
+	}
+	if err := CheckWorkbookZip(bytes.NewReader(data), int64(len(data))); !errors.Is(err, ErrRowOrder) {
+		t.Errorf("CheckWorkbookZip: %v, want ErrRowOrder", err)
+	}
+}
+
+// BenchmarkSmallSheetBesideLarge reads a 3-row sheet of a workbook whose
+// other sheet holds 200 000 rows: only the sheet read is scanned.
+func BenchmarkSmallSheetBesideLarge(b *testing.B) {
+	f := excelize.NewFile()
+	defer f.Close()
+	f.SetSheetName("Sheet1", "xs")
+	f.SetSheetRow("xs", "A1", &[]any{"station", "elevation"})
+	f.SetSheetRow("xs", "A2", &[]any{0, 3})
+	f.SetSheetRow("xs", "A3", &[]any{1, 0})
+	f.SetSheetRow("xs", "A4", &[]any{2, 3})
+	f.NewSheet("big")
+	sw, err := f.NewStreamWriter("big")
+	if err != nil {
+		b.Fatal(err)
+	}
+	for i := 1; i <= 200_000; i++ {
+		cell, _ := excelize.CoordinatesToCellName(1, i)
+		if err := sw.SetRow(cell, []any{i, 0.5}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		b.Fatal(err)
+	}
+	p := filepath.Join(b.TempDir(), "big.xlsx")
+	if err := f.SaveAs(p); err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := ReadSection(p, "xs", SectionOptions{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

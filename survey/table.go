@@ -120,8 +120,9 @@ var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWo
 
 // openWorkbook opens a workbook file for reading. Every reader of a
 // workbook file opens it here, so the file is always a regular file
-// within the limits and its zip directory and sheets are checked first
-// (CheckWorkbookZip).
+// within the limits and its zip directory is checked first; each sheet is
+// checked as CheckWorkbookZip checks it when a reader chooses it
+// (chooseSheet).
 func openWorkbook(path string) (*inputBook, error) {
 	data, err := readInput(path)
 	if err != nil {
@@ -130,13 +131,11 @@ func openWorkbook(path string) (*inputBook, error) {
 	return openWorkbookBytes(data, path)
 }
 
-// inputBook is a workbook opened to be read, with what the check of its
-// zip archive found of its sheets.
+// inputBook is a workbook opened to be read, with the scan of the sheets
+// it reads (see sheetScanner).
 type inputBook struct {
 	*excelize.File
-	// scans holds, by sheet name, the cells with a formula and no saved
-	// value and the cells whose raw value is not what is shown.
-	scans map[string]sheetScan
+	scans *sheetScanner
 }
 
 // shown rewrites the raw values of a row of a sheet (row is 1-based) as
@@ -146,7 +145,7 @@ type inputBook struct {
 // (0.05 as 5%), which only a column in percent takes (see
 // Table.percent) and every other number column refuses (ErrPercent).
 func (f *inputBook) shown(sheet string, row int, rec []string) {
-	marks := f.scans[sheet].marks
+	marks := f.scans.done[sheet].marks
 	if len(marks) == 0 {
 		return
 	}
@@ -188,9 +187,10 @@ func percentShown(raw string) string {
 }
 
 // openWorkbookBytes opens a workbook held in memory; name is used in
-// messages.
+// messages. Its zip directory is checked here; each sheet is scanned
+// when it is chosen (chooseSheet).
 func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
-	scans, err := checkWorkbookZip(bytes.NewReader(data), int64(len(data)))
+	zr, err := checkZipDirectory(bytes.NewReader(data), int64(len(data)))
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
@@ -198,7 +198,7 @@ func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	return &inputBook{File: f, scans: scans}, nil
+	return &inputBook{File: f, scans: &sheetScanner{zr: zr}}, nil
 }
 
 // ErrFormulaNoValue is the cause of a formula cell whose value was never
@@ -209,7 +209,7 @@ var ErrFormulaNoValue = errors.New("a formula with no saved value: open and save
 // unsavedError is the ParseError at the first cell of a sheet holding a
 // formula with no saved value, nil when the sheet has none.
 func (f *inputBook) unsavedError(path, sheet string) error {
-	u := f.scans[sheet].unsaved
+	u := f.scans.done[sheet].unsaved
 	if u.count == 0 {
 		return nil
 	}
@@ -486,13 +486,17 @@ func HiddenSheetWarning(path, sheet string) string {
 // being passed over (it may hold an old survey). Every reader of a
 // workbook sheet chooses it here. Errors: no such sheet, no sheets,
 // ErrNoVisibleSheet, or ErrFormulaNoValue at the first cell of the sheet
-// chosen that holds a formula with no saved value.
+// chosen that holds a formula with no saved value, and the errors of the
+// sheet's scan (ErrRowOrder, ErrWorkbookZip).
 func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	sheet, warnings, err := pickSheet(f.File, path, sheet)
-	if err == nil {
-		err = f.unsavedError(path, sheet)
+	if err != nil {
+		return sheet, warnings, err
 	}
-	return sheet, warnings, err
+	if _, err := f.scans.scan(sheet); err != nil {
+		return sheet, warnings, &ParseError{File: path, Sheet: sheet, Err: err}
+	}
+	return sheet, warnings, f.unsavedError(path, sheet)
 }
 
 // pickSheet is chooseSheet without the check of formulas.
