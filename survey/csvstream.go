@@ -5,7 +5,6 @@ import (
 	"bytes"
 	"encoding/csv"
 	"errors"
-	"fmt"
 	"io"
 )
 
@@ -132,11 +131,10 @@ func (c *csvStream) next() ([][]byte, int, error) {
 			}
 		}
 		if c.line == 1 {
-			if m := excelSeparatorHint.FindSubmatch(line); m != nil {
-				if string(m[1]) != "," {
-					return nil, 0, &ParseError{File: c.name, Row: 1, Err: fmt.Errorf("%w (%s)", ErrSeparatorHint, bytes.TrimSpace(line))}
-				}
-				continue // Excel's separator hint
+			if hint, err := separatorHint(line, c.name); err != nil {
+				return nil, 0, err
+			} else if hint {
+				continue
 			}
 		}
 		if len(line) == 0 || line[0] == '#' {

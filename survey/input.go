@@ -273,22 +273,34 @@ func textPosition(data []byte, off int) (line, field int) {
 // the lines below ("sep=," and the like).
 var excelSeparatorHint = regexp.MustCompile(`(?i)^sep=(.)?\s*$`)
 
-// dropSeparatorHint blanks a first line "sep=," (Excel's separator hint),
-// keeping the line count, so that the header below it is read; a hint of
-// another separator is an error at line 1.
+// dropSeparatorHint drops a first line "sep=," (see separatorHint),
+// keeping its line end so that the line count holds and the header below
+// it is read.
 func dropSeparatorHint(data []byte, name string) ([]byte, error) {
 	end := bytes.IndexByte(data, '\n')
 	if end < 0 {
 		end = len(data)
 	}
-	m := excelSeparatorHint.FindSubmatch(bytes.TrimRight(data[:end], "\r"))
-	if m == nil {
-		return data, nil
-	}
-	if string(m[1]) != "," {
-		return nil, &ParseError{File: name, Row: 1, Err: fmt.Errorf("%w (%s)", ErrSeparatorHint, bytes.TrimSpace(data[:end]))}
+	hint, err := separatorHint(bytes.TrimRight(data[:end], "\r"), name)
+	if err != nil || !hint {
+		return data, err
 	}
 	return data[end:], nil
+}
+
+// separatorHint reports whether line, the first line of a CSV file
+// without its line end, is Excel's separator hint "sep=," (to be
+// skipped); a hint of another separator is a ParseError at line 1
+// (ErrSeparatorHint). Every CSV reader checks its first line here.
+func separatorHint(line []byte, name string) (bool, error) {
+	m := excelSeparatorHint.FindSubmatch(line)
+	if m == nil {
+		return false, nil
+	}
+	if string(m[1]) != "," {
+		return false, &ParseError{File: name, Row: 1, Err: fmt.Errorf("%w (%s)", ErrSeparatorHint, bytes.TrimSpace(line))}
+	}
+	return true, nil
 }
 
 // utf16Like reports text whose every other byte is zero: UTF-16 without a
