@@ -89,11 +89,10 @@ func stagesApart(fs *flagSet, err error) error {
 	return usageError{err: fmt.Errorf("rate: the range is shorter than the table's precision, so its default stages are written alike: %w; give a wider --from/--to range", err)}
 }
 
-// stageSpec returns the stages asked for; a default step is never finer
-// than the table writes its stages (rating.StageSpec.MinStep).
+// stageSpec returns the stages asked for (results.TableStages keeps a
+// default step no finer than the table writes its stages).
 func (f *rateFlags) stageSpec(fs *flagSet) rating.StageSpec {
-	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum,
-		MinStep: results.LengthResolution}
+	spec := rating.StageSpec{List: f.stages, From: f.from, To: f.to, FromSet: fs.Changed("from"), ToSet: fs.Changed("to"), Datum: f.calib.datum}
 	if fs.Changed("step") {
 		spec.Step = f.step
 	}

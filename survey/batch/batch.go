@@ -206,10 +206,10 @@ type Options struct {
 	// Request holds the overrides of every section (n, banks, units,
 	// composite roughness).
 	Request survey.SectionRequest
-	// Stages asks for the stages of every table. Its MinStep is at least
-	// results.LengthResolution: a default step worked out for a section is
-	// never finer than its table writes stages (the section's warnings say
-	// when it was raised).
+	// Stages asks for the stages of every table. A default step worked
+	// out for a section is never finer than its table writes stages
+	// (results.TableStages; the section's warnings say when it was
+	// raised).
 	Stages rating.StageSpec
 	// Rating holds the slope and wetting options (its Units is replaced by
 	// each section's, resolved as Prepare resolves it).
@@ -292,9 +292,7 @@ func Rate(j Job, opt Options) Result {
 	}
 	// A default step is never finer than the tables write their stages;
 	// a range shorter than that is refused, as a table of repeated stages.
-	spec := opt.Stages
-	spec.MinStep = math.Max(spec.MinStep, results.LengthResolution)
-	stages, stageWarnings, err := results.TableStages(spec, p.Geometry, p.Source())
+	stages, stageWarnings, err := results.TableStages(opt.Stages, p.Geometry, p.Source())
 	if err != nil {
 		return fail(err)
 	}

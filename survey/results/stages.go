@@ -16,12 +16,15 @@ var ErrNoDepth = errors.New("the section has no depth to rate")
 
 // TableStages returns the stages spec asks for in geometry g, with the
 // warnings of rating.StageSpec.StagesWarn, checked to be written apart
-// (CheckStagesApart). With default stages (no list, no range, no step), a
+// (CheckStagesApart). A default step is never finer than a table writes
+// its stages: spec.MinStep is raised to LengthResolution when it is
+// finer. With default stages (no list, no range, no step), a
 // section holding no water below its ends (rating.ErrNoLowPoint) or
 // shallower than LengthResolution (ErrStagesAlike) is an error naming
 // source and wrapping ErrNoDepth and the cause; other errors are returned
 // as they are, for the caller to name the flag that asked.
 func TableStages(spec rating.StageSpec, g subdivide.Geometry, source string) ([]float64, []string, error) {
+	spec.MinStep = max(spec.MinStep, LengthResolution)
 	stages, warnings, err := spec.StagesWarn(g)
 	if err == nil {
 		err = CheckStagesApart(stages)

@@ -46,4 +46,11 @@ func TestTableStages(t *testing.T) {
 			t.Errorf("%s: %v does not name the file", c.name, err)
 		}
 	}
+	// A spec without MinStep gets LengthResolution all the same: 0.002 m
+	// of depth in steps of 0.0001 m is 0.002/0.0001 + 1 = 21 stages (by
+	// hand), with the warning that the step was raised.
+	st, warnings, err := TableStages(rating.StageSpec{}, section(0.002), "x.csv")
+	if err != nil || len(st) != 21 || len(warnings) == 0 {
+		t.Errorf("MinStep unset: %d stages, warnings %q, %v; want 21 stages and a warning", len(st), warnings, err)
+	}
 }
