@@ -120,7 +120,8 @@ func surveyFiles(dir string) ([]string, error) {
 // fileJobs returns the jobs of one input file: a CSV file, the named
 // sheet, or every visible survey sheet of a workbook, each sheet that
 // cannot be read being a failing job of its own; and warnings naming
-// hidden survey sheets passed over or a named sheet that is hidden.
+// hidden survey sheets passed over (a named sheet that is hidden is read,
+// and the section's own warnings say so).
 func fileJobs(path, sheet string) ([]Job, []string) {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	if !survey.IsWorkbook(path) {
@@ -131,13 +132,8 @@ func fileJobs(path, sheet string) ([]Job, []string) {
 		return []Job{{Path: path, Name: base, Err: err}}, nil
 	}
 	if sheet != "" {
-		var warnings []string
-		for _, s := range sheets {
-			if s.Sheet == sheet && s.Hidden {
-				warnings = append(warnings, survey.HiddenSheetWarning(path, sheet))
-			}
-		}
-		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, warnings
+		// A named hidden sheet is read, and its reader warns of it.
+		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, nil
 	}
 	var jobs []Job
 	var hidden []string

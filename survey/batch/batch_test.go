@@ -679,8 +679,10 @@ func TestListHiddenSheets(t *testing.T) {
 		f.NewSheet(s)
 	}
 	for _, s := range []string{"old", "XS-1", "XS-2"} {
-		f.SetSheetRow(s, "A1", &[]any{"station", "elevation"})
-		f.SetSheetRow(s, "A2", &[]any{0, 1})
+		f.SetSheetRow(s, "A1", &[]any{"station", "elevation", "n"})
+		f.SetSheetRow(s, "A2", &[]any{0, 1, 0.03})
+		f.SetSheetRow(s, "A3", &[]any{1, 0, 0.03})
+		f.SetSheetRow(s, "A4", &[]any{2, 1})
 	}
 	f.SetActiveSheet(1) // excelize does not hide the active sheet
 	if err := f.SetSheetVisible("old", false); err != nil {
@@ -697,7 +699,7 @@ func TestListHiddenSheets(t *testing.T) {
 	}{
 		{"", []string{"XS-1", "XS-2"}, 1},
 		{"XS-2", []string{"XS-2"}, 0},
-		{"old", []string{"old"}, 1},
+		{"old", []string{"old"}, 0}, // the section's reader warns, once
 	} {
 		jobs, _, warnings, err := batch.ListWarn([]string{path}, c.sheet, "csv")
 		if err != nil {
@@ -712,6 +714,18 @@ func TestListHiddenSheets(t *testing.T) {
 		}
 		if len(warnings) != c.wantWarns || (c.wantWarns > 0 && !strings.Contains(warnings[0], "'old'")) {
 			t.Errorf("sheet %q: warnings %q, want %d naming 'old'", c.sheet, warnings, c.wantWarns)
+		}
+		if c.sheet == "old" {
+			r := batch.Rate(jobs[0], batch.Options{Rating: rating.Options{Slope: 0.001}})
+			hidden := 0
+			for _, w := range r.Entry.Warnings {
+				if strings.Contains(w, "the sheet is hidden") {
+					hidden++
+				}
+			}
+			if hidden != 1 {
+				t.Errorf("a named hidden sheet read with warnings %q, want one saying it is hidden", r.Entry.Warnings)
+			}
 		}
 	}
 }
