@@ -358,8 +358,8 @@ func (r *sectionReader) reverseN() error {
 	for _, v := range r.ns {
 		empty = empty && math.IsNaN(v)
 	}
-	if empty {
-		return nil // roughness reports the empty column
+	if empty || (r.nGiven && math.IsNaN(r.ns[0])) {
+		return nil // roughness reports the empty column, or n comes from elsewhere
 	}
 	if math.IsNaN(r.ns[0]) {
 		return r.t.At(r.records[0], r.cn, ErrFirstNBlank)

@@ -49,8 +49,9 @@ type SectionOptions struct {
 	// stations (see CoordinateOptions).
 	Coordinates CoordinateOptions
 	// NGiven says that n is given elsewhere (--n), replacing the n
-	// column's: an n column with every cell blank is then accepted and
-	// left unused, not refused with ErrEmptyNColumn.
+	// column's: an n column with every cell blank, or with its first cell
+	// blank, is then accepted and left unused, not refused with
+	// ErrEmptyNColumn or ErrFirstNBlank.
 	NGiven bool
 }
 
@@ -123,7 +124,7 @@ var (
 // reported, each naming its row and column: a blank, unreadable or
 // implausible station, elevation or n (see MaxCoordinate, MaxElevation,
 // MinN, MaxN), a station less than the one before, a blank n on the first
-// point of an n column, an n column with every cell blank (unless
+// point of an n column or an n column with every cell blank (unless
 // opt.NGiven), a count of bank marks other than two.
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
@@ -136,6 +137,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if len(r.errs) > 0 {
 		return r.sv, r.errs.err()
 	}
+	r.nGiven = opt.NGiven
 	if r.coords {
 		if err := r.project(opt.Coordinates); err != nil {
 			return r.sv, err
@@ -144,7 +146,6 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if err := r.shape(); err != nil {
 		return r.sv, err
 	}
-	r.nGiven = opt.NGiven
 	if err := r.roughness(); err != nil {
 		return r.sv, err
 	}
@@ -294,8 +295,8 @@ func (r *sectionReader) roughness() error {
 	for _, n := range r.ns {
 		empty = empty && math.IsNaN(n)
 	}
-	if empty && r.nGiven {
-		return nil
+	if r.nGiven && (empty || math.IsNaN(r.ns[0])) {
+		return nil // n comes from elsewhere: nothing to carry
 	}
 	if empty {
 		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: r.cn + 1, Name: t.Header[r.cn], Err: ErrEmptyNColumn}
