@@ -12,7 +12,10 @@ import (
 // paletteSize is the number of colours a figure's PNG keeps.
 const paletteSize = 256
 
-// encodePNG writes img as an 8-bit paletted PNG at the best compression.
+// encodePNG writes img as an 8-bit paletted PNG at zlib's default
+// compression (the best saves about 7 % of a README figure's bytes at ten
+// times the encoding time: 62-104 KB in 230-290 ms against 67-110 KB in
+// 18-25 ms, measured 2026-12-03 on a 2-core Intel Xeon).
 //
 // A figure is a few flat colours plus the anti-aliased shades at the
 // edges of text and lines. The palette is the figure's paletteSize most
