@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"path"
+	"sort"
 	"strings"
 )
 
@@ -75,6 +76,10 @@ const (
 	// markPercent is a number cell with a percent format: stored 0.05,
 	// shown 5%.
 	markPercent
+	// markDate is a number cell with a date or time format: stored as
+	// the date serial 46174, shown as the date 2026-06-01. Date cells are
+	// kept in sheetScan.dates, not in its marks.
+	markDate
 )
 
 // cellAt is a cell's 1-based row and column.
@@ -82,10 +87,39 @@ type cellAt struct{ row, col int64 }
 
 // sheetScan is what the check of a workbook's zip archive found of one
 // sheet: its formula cells with no saved value, and its cells whose raw
-// value is not what is shown.
+// value is not what is shown: booleans and percents cell by cell, dates
+// (which may fill a column of a million readings) as runs of rows.
 type sheetScan struct {
 	unsaved unsavedCells
 	marks   map[cellAt]cellMark
+	dates   dateCells
+}
+
+// dateCells holds the date cells of a sheet: for each 1-based column,
+// its runs of consecutive rows, in rising order.
+type dateCells map[int64][]rowRun
+
+// rowRun is the rows first to last (1-based, inclusive).
+type rowRun struct{ first, last int64 }
+
+// add notes a date cell; the rows of a column must come in rising order.
+func (d *dateCells) add(row, col int64) {
+	if *d == nil {
+		*d = dateCells{}
+	}
+	runs := (*d)[col]
+	if n := len(runs); n > 0 && runs[n-1].last+1 >= row {
+		runs[n-1].last = max(runs[n-1].last, row)
+		return
+	}
+	(*d)[col] = append(runs, rowRun{row, row})
+}
+
+// has reports a date cell at row and col.
+func (d dateCells) has(row, col int64) bool {
+	runs := d[col]
+	i := sort.Search(len(runs), func(i int) bool { return runs[i].last >= row })
+	return i < len(runs) && runs[i].first <= row
 }
 
 // checkWorkbookZip is CheckWorkbookZip; it also returns, by sheet name,
@@ -96,7 +130,7 @@ func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
 	if err != nil {
 		return nil, err
 	}
-	return scanEverySheet(zr, percentStyles(zr))
+	return scanEverySheet(zr, markedStyles(zr))
 }
 
 // checkZipDirectory checks a workbook's size, its zip signature and the
@@ -135,18 +169,18 @@ func isWorksheetPart(name string) bool {
 	return strings.HasPrefix(name, "xl/worksheets/") && strings.HasSuffix(name, ".xml")
 }
 
-// scanEverySheet scans every worksheet part of an archive (percent is
-// percentStyles') and returns, by sheet name, what was found in the
+// scanEverySheet scans every worksheet part of an archive (styles is
+// markedStyles') and returns, by sheet name, what was found in the
 // sheets with something to tell.
-func scanEverySheet(zr *zip.Reader, percent map[int64]bool) (map[string]sheetScan, error) {
+func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) (map[string]sheetScan, error) {
 	byPart := map[string]sheetScan{}
 	for _, f := range zr.File {
 		if isWorksheetPart(f.Name) {
-			sc, err := scanSheet(f, percent)
+			sc, err := scanSheet(f, styles)
 			if err != nil {
 				return nil, err
 			}
-			if sc.unsaved.count > 0 || len(sc.marks) > 0 {
+			if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
 				byPart[f.Name] = sc
 			}
 		}
@@ -171,12 +205,12 @@ func scanEverySheet(zr *zip.Reader, percent map[int64]bool) (map[string]sheetSca
 // each once: reading one sheet of a workbook costs the scan of that sheet
 // alone, however large the others are.
 type sheetScanner struct {
-	zr      *zip.Reader
-	percent map[int64]bool       // percentStyles', read with the first sheet
-	styled  bool                 // percent has been read
-	parts   map[string]*zip.File // sheet name to its part, found with the first sheet
-	every   map[string]sheetScan // scanEverySheet's, when parts could not be found
-	done    map[string]sheetScan // the sheets scanned, by name
+	zr     *zip.Reader
+	styles map[int64]cellMark   // markedStyles', read with the first sheet
+	styled bool                 // styles has been read
+	parts  map[string]*zip.File // sheet name to its part, found with the first sheet
+	every  map[string]sheetScan // scanEverySheet's, when parts could not be found
+	done   map[string]sheetScan // the sheets scanned, by name
 }
 
 // scan returns what the scan of sheet found (see scanSheet), scanning it
@@ -188,7 +222,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 		return sc, nil
 	}
 	if !s.styled {
-		s.percent, s.styled = percentStyles(s.zr), true
+		s.styles, s.styled = markedStyles(s.zr), true
 	}
 	if s.parts == nil && s.every == nil {
 		if err := s.findParts(); err != nil {
@@ -200,7 +234,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 		sc = s.every[sheet]
 	} else if f := s.parts[sheet]; f != nil {
 		var err error
-		if sc, err = scanSheet(f, s.percent); err != nil {
+		if sc, err = scanSheet(f, s.styles); err != nil {
 			return sheetScan{}, err
 		}
 	}
@@ -216,7 +250,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 func (s *sheetScanner) findParts() error {
 	names, err := sheetParts(s.zr)
 	if err != nil {
-		every, err := scanEverySheet(s.zr, s.percent)
+		every, err := scanEverySheet(s.zr, s.styles)
 		if err != nil {
 			return err
 		}
@@ -282,8 +316,8 @@ var ErrRowOrder = errors.New("a sheet's rows are out of order or repeated")
 // decoding it: the numbers of its rows (their r attributes) must rise
 // strictly (ErrRowOrder), and the cells holding a formula (an f element)
 // but no saved value (no v element) are returned, with the boolean cells
-// and the number cells whose style is one of percent (see percentStyles).
-func scanSheet(f *zip.File, percent map[int64]bool) (sheetScan, error) {
+// and the number cells whose style is marked in styles (see markedStyles).
+func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 	var out sheetScan
 	u := &out.unsaved
 	rc, err := f.Open()
@@ -333,8 +367,13 @@ func scanSheet(f *zip.File, percent map[int64]bool) (sheetScan, error) {
 			switch t := string(attrValue(tag.attrs, "t")); {
 			case t == "b":
 				mark(markBoolean)
-			case (t == "" || t == "n") && len(percent) > 0 && percent[attrNumber(tag.attrs, "s")]:
-				mark(markPercent)
+			case (t == "" || t == "n") && len(styles) > 0:
+				switch styles[attrNumber(tag.attrs, "s")] {
+				case markPercent:
+					mark(markPercent)
+				case markDate:
+					out.dates.add(row, col)
+				}
 			}
 		case name == "f" && !tag.end:
 			formula = inCell
@@ -577,12 +616,20 @@ func readXML(zr *zip.Reader, name string, v any) error {
 	return xml.NewDecoder(f).Decode(v)
 }
 
-// percentStyles returns the cell styles (indices into the cellXfs of the
-// workbook's styles part) whose number format shows a percent: the
-// built-in formats 9 (0%) and 10 (0.00%), and custom formats whose first
-// section ends in an unquoted, unescaped percent sign. A workbook with no
-// readable styles part has none.
-func percentStyles(zr *zip.Reader) map[int64]bool {
+// markedStyles returns the cell styles (indices into the cellXfs of the
+// workbook's styles part) whose number format shows a number as other
+// than a number: markPercent for a percent (the built-in formats 9 and
+// 10, or a custom code whose first section ends in an unquoted, unescaped
+// percent sign), markDate for a date or a time of day (the built-in
+// formats 14 to 22 and 45 to 47, the built-in East Asian date formats 27
+// to 36 and 50 to 58, or a custom code that dateFormat reads as one). A
+// workbook with no styles part, or one that cannot be read, has none.
+//
+// References:
+//
+//	ECMA-376, Office Open XML File Formats, 5th ed. (2016), Part 1,
+//	18.8.30 numFmt (built-in number formats) and 18.8.31 numFmts.
+func markedStyles(zr *zip.Reader) map[int64]cellMark {
 	var st struct {
 		NumFmts []struct {
 			ID   int64  `xml:"numFmtId,attr"`
@@ -595,20 +642,74 @@ func percentStyles(zr *zip.Reader) map[int64]bool {
 	if err := readXML(zr, stylesPart(zr), &st); err != nil {
 		return nil
 	}
-	formats := map[int64]bool{9: true, 10: true}
-	for _, nf := range st.NumFmts {
-		formats[nf.ID] = percentFormat(nf.Code)
+	formats := map[int64]cellMark{9: markPercent, 10: markPercent}
+	for _, r := range [][2]int64{{14, 22}, {27, 36}, {45, 47}, {50, 58}} {
+		for id := r[0]; id <= r[1]; id++ {
+			formats[id] = markDate
+		}
 	}
-	var out map[int64]bool
+	for _, nf := range st.NumFmts {
+		switch {
+		case percentFormat(nf.Code):
+			formats[nf.ID] = markPercent
+		case dateFormat(nf.Code):
+			formats[nf.ID] = markDate
+		default:
+			delete(formats, nf.ID)
+		}
+	}
+	var out map[int64]cellMark
 	for i, xf := range st.Xfs {
-		if formats[xf.NumFmtID] {
+		if m := formats[xf.NumFmtID]; m != 0 {
 			if out == nil {
-				out = map[int64]bool{}
+				out = map[int64]cellMark{}
 			}
-			out[int64(i)] = true
+			out[int64(i)] = m
 		}
 	}
 	return out
+}
+
+// dateFormat reports whether a number format code shows a number as a
+// date or a time of day: its first section holds one of the letters y,
+// m, d, h or s (any case) outside quoted text, escaped characters,
+// spacing and fill characters (_x, *x) and brackets other than the
+// elapsed-time brackets [h], [m] and [s]. "General", number, currency
+// and scientific formats hold none: a format's literal letters are quoted
+// or escaped, and G, e, n, r, a, l and E are not among the five.
+func dateFormat(code string) bool {
+	quoted := false
+	for i := 0; i < len(code); i++ {
+		c := code[i]
+		switch {
+		case quoted:
+			if c == '"' {
+				quoted = false
+			}
+		case c == '"':
+			quoted = true
+		case c == '\\' || c == '_' || c == '*':
+			i++
+		case c == ';':
+			return false
+		case c == '[':
+			j := strings.IndexByte(code[i:], ']')
+			if j < 0 {
+				return false
+			}
+			inner := strings.ToLower(strings.Trim(code[i+1:i+j], "hms"))
+			if inner == "" && j > 1 {
+				return true // [h], [mm], [ss]: elapsed time
+			}
+			i += j
+		default:
+			switch c | 0x20 {
+			case 'y', 'm', 'd', 'h', 's':
+				return true
+			}
+		}
+	}
+	return false
 }
 
 // stylesPart returns the name of a workbook's styles part, as the

@@ -89,6 +89,10 @@ var (
 	// ErrPercent is the cause of a percent (5%, or a workbook cell with a
 	// percent format) in a number column that is not in percent.
 	ErrPercent = errors.New("a percent in a column that is not in percent: write the number itself")
+	// ErrDateNotNumber is the cause of a date or a time of day in a number
+	// column: most often a spreadsheet has turned what was typed (6/1,
+	// 1-6, 10:15) into a date.
+	ErrDateNotNumber = errors.New("a date where a number belongs (a spreadsheet may have turned the value typed into a date): format the cell as a number and type the value again")
 )
 
 // MaxReported bounds how many row errors one file reports.

@@ -145,6 +145,7 @@ func FuzzScanSheet(f *testing.F) {
 		`<row r="2"></row><row r="2"></row>`,
 		`<c r="XFD1048576"><f>1</f></c><c r='A0'><f/></c><!-- <c><f>1</f></c> --><?xml version="1.0"?>`,
 		`<c r="A1" ` + strings.Repeat("s=\"1\" ", 200) + `><f>1</f></c>`,
+		`<row r="1"><c r="A1" s="2"><v>46174</v></c><c r="B1" s="1"><v>0.05</v></c></row><row r="2"><c r="A2" s="2"><v>46175.5</v></c></row><row r="4"><c r="A4" s="2"/></row>`,
 	} {
 		f.Add([]byte(s))
 	}
@@ -163,7 +164,7 @@ func FuzzScanSheet(f *testing.F) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sc, err := scanSheet(zr.File[0], map[int64]bool{1: true})
+		sc, err := scanSheet(zr.File[0], map[int64]cellMark{1: markPercent, 2: markDate})
 		if err != nil {
 			if !errors.Is(err, ErrRowOrder) && !errors.Is(err, ErrWorkbookZip) {
 				t.Fatalf("error %v is neither ErrRowOrder nor ErrWorkbookZip", err)
@@ -176,6 +177,13 @@ func FuzzScanSheet(f *testing.F) {
 		for at := range sc.marks {
 			if at.row < 1 || at.col < 1 {
 				t.Fatalf("a cell marked at row %d column %d", at.row, at.col)
+			}
+		}
+		for col, runs := range sc.dates {
+			for i, r := range runs {
+				if col < 1 || r.first < 1 || r.last < r.first || (i > 0 && r.first <= runs[i-1].last+1) {
+					t.Fatalf("date cells of column %d in runs %v", col, runs)
+				}
 			}
 		}
 	})

@@ -147,11 +147,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	if err != nil {
 		return nil, err
 	}
-	date1904 := false
-	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
-		date1904 = *props.Date1904
-	}
-	b, err := newStageBuilder(path, sheet, opt, true, date1904)
+	b, err := newStageBuilder(path, sheet, opt, true, f.date1904)
 	if err != nil {
 		return nil, err
 	}

@@ -10,6 +10,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/xuri/excelize/v2"
+
 	"wetline/rating/gauged"
 	"wetline/rating/record"
 	"wetline/survey"
@@ -125,5 +127,48 @@ func BenchmarkStageRecordCompute(b *testing.B) {
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(len(res.Units)), "ns/reading")
 	if len(res.Units) != 1_051_968 || len(res.Daily) != 10_958 {
 		b.Fatalf("%d unit values, %d days", len(res.Units), len(res.Daily))
+	}
+}
+
+// BenchmarkStageRecordWorkbook reads 100 000 fifteen-minute readings from
+// a workbook sheet whose times are date cells (a date-time number
+// format), as a spreadsheet keeps a logger's download.
+func BenchmarkStageRecordWorkbook(b *testing.B) {
+	const n = 100_000
+	f := excelize.NewFile()
+	defer f.Close()
+	style, err := f.NewStyle(&excelize.Style{NumFmt: 22}) // m/d/yy h:mm
+	if err != nil {
+		b.Fatal(err)
+	}
+	sw, err := f.NewStreamWriter("Sheet1")
+	if err != nil {
+		b.Fatal(err)
+	}
+	if err := sw.SetRow("A1", []any{"time", "stage (m)"}); err != nil {
+		b.Fatal(err)
+	}
+	for i := range n {
+		cell, _ := excelize.CoordinatesToCellName(1, i+2)
+		serial := 45292 + float64(i)/96 // 2024-01-01 in the 1900 date system, in quarter hours
+		if err := sw.SetRow(cell, []any{excelize.Cell{StyleID: style, Value: serial}, 1 + 0.5*math.Sin(float64(i)/500)}); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if err := sw.Flush(); err != nil {
+		b.Fatal(err)
+	}
+	path := filepath.Join(b.TempDir(), "stages.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		r, err := survey.ReadStageRecord(path, survey.StageRecordOptions{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if r.Stages.Len() != n {
+			b.Fatalf("%d readings", r.Stages.Len())
+		}
 	}
 }

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -328,4 +329,191 @@ func FuzzCSVSyntaxError(f *testing.F) {
 			return
 		}
 	})
+}
+
+// dateBook writes a workbook of one sheet, "xs": a site block whose
+// "surveyed" value B2 is a date cell, then a survey whose station cell
+// A6 holds what a spreadsheet makes of "6/1" typed into it (the serial
+// 46174 of 2026-06-01 with the date format given: a built-in id or a
+// custom code), in the date system given.
+func dateBook(t *testing.T, format any, date1904 bool) string {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	if date1904 {
+		yes := true
+		if err := f.SetWorkbookProps(&excelize.WorkbookPropsOptions{Date1904: &yes}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	f.SetSheetName("Sheet1", "xs")
+	rows := [][]any{
+		{"site", "Test reach (invented)"},
+		{"surveyed", nil},
+		{"station", "elevation", "n"},
+		{0, 3, 0.035},
+		{4, 0, 0.035},
+		{8, 3},
+	}
+	for r, row := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, r+1)
+		if err := f.SetSheetRow("xs", cell, &row); err != nil {
+			t.Fatal(err)
+		}
+	}
+	st := &excelize.Style{}
+	switch v := format.(type) {
+	case int:
+		st.NumFmt = v
+	case string:
+		st.CustomNumFmt = &v
+	}
+	id, err := f.NewStyle(st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The serials as the date system stores them: 1904's day 0 is
+	// 1904-01-01, 1 462 days after 1900's (ECMA-376 Part 1, 18.17.4.1,
+	// from memory).
+	surveyed, typed := 46114.0, 46174.0 // 2026-04-02 and 2026-06-01
+	if date1904 {
+		surveyed, typed = surveyed-1462, typed-1462
+	}
+	f.SetCellValue("xs", "B2", surveyed)
+	f.SetCellValue("xs", "A6", typed)
+	for _, cell := range []string{"B2", "A6"} {
+		if err := f.SetCellStyle("xs", cell, cell, id); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "xs.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	return path
+}
+
+// A number cell with a date format reads as the date shown: a date
+// where a station belongs is refused at its cell (read as the serial, it
+// made a station of 46 174 m and a wrong rating), and a date in the site
+// block reads as that date, in ISO 8601, in both date systems.
+func TestDateCellsReadAsShown(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name     string
+		format   any
+		date1904 bool
+	}{
+		{"built-in m/d/yyyy", 14, false},
+		{"built-in d-mmm-yy", 15, false},
+		{"custom yyyy-mm-dd", "yyyy-mm-dd", false},
+		{"custom d mmm yyyy, in red", "[Red]d mmm yyyy", false},
+		{"1904 date system", 14, true},
+	} {
+		path := dateBook(t, tc.format, tc.date1904)
+		_, err := ReadSection(path, "", SectionOptions{})
+		if !errors.Is(err, ErrDateNotNumber) || !strings.Contains(err.Error(), `xs.xlsx['xs']!A6: station "2026-06-01": a date where a number belongs`) {
+			t.Errorf("%s: station cell: %v, want ErrDateNotNumber at A6", tc.name, err)
+		}
+		tab, err := ReadTable(path, "")
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if got := tab.Meta["surveyed"]; got != "2026-04-02" {
+			t.Errorf("%s: surveyed reads %q, want 2026-04-02", tc.name, got)
+		}
+	}
+}
+
+// Gauging times in date cells read as before: the date shown, with its
+// time of day, at the offset asked for.
+func TestDateCellsInTimeColumn(t *testing.T) {
+	t.Parallel()
+	f := excelize.NewFile()
+	defer f.Close()
+	rows := [][]any{
+		{"time", "stage (m)", "discharge (m3/s)"},
+		{time.Date(2026, 3, 2, 9, 15, 0, 0, time.UTC), 1.1, 2.5},
+		{time.Date(2026, 4, 11, 0, 0, 0, 0, time.UTC), 2.05, 7.6},
+		{time.Date(2026, 5, 20, 10, 30, 30, 0, time.UTC), 0.6, 0.61},
+	}
+	for r, row := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, r+1)
+		if err := f.SetSheetRow("Sheet1", cell, &row); err != nil {
+			t.Fatal(err)
+		}
+	}
+	path := filepath.Join(t.TempDir(), "g.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	g, err := ReadGaugings(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, row := range rows[1:] {
+		if want := row[0].(time.Time); !g.Gaugings[i].Time.Equal(want) {
+			t.Errorf("row %d: time %v, want %v", i+2, g.Gaugings[i].Time, want)
+		}
+	}
+}
+
+// dateShown writes a serial as the date a spreadsheet shows (1900 date
+// system: serial 1 is 1900-01-01, 46174 is 2026-06-01, from memory; a
+// fraction is the time of day).
+func TestDateShown(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		raw      string
+		date1904 bool
+		want     string
+	}{
+		{"46174", false, "2026-06-01"},
+		{"46174.4375", false, "2026-06-01T10:30:00"},
+		{"44712", true, "2026-06-01"},
+		{"0.4375", false, "10:30:00"},
+		{"-1", false, "-1"},
+		{"x", false, "x"},
+		{"", false, ""},
+	} {
+		if got := dateShown(tc.raw, tc.date1904); got != tc.want {
+			t.Errorf("dateShown(%q, %v) = %q, want %q", tc.raw, tc.date1904, got, tc.want)
+		}
+	}
+}
+
+// The date and time number formats: ECMA-376 Part 1, 18.8.31 (numFmt),
+// the codes y, m, d, h and s, elapsed time in brackets (from memory).
+func TestDateFormat(t *testing.T) {
+	t.Parallel()
+	for code, want := range map[string]bool{
+		"yyyy-mm-dd": true, "d mmm yyyy": true, "m/d/yy h:mm": true, "[h]:mm:ss": true, "h:mm AM/PM": true,
+		"[$-409]d-mmm-yy": true, "[Red]dd/mm/yyyy": true, "mm:ss.0": true,
+		"General": false, "0.00": false, "0.00E+00": false, `0.0" m"`: false, `0.0\ \m`: false, "[Red]0.00": false,
+		"#,##0.00;[Red]-#,##0.00": false, "@": false, "": false, `_-* #,##0_-`: false, "0.0;d": false,
+	} {
+		if got := dateFormat(code); got != want {
+			t.Errorf("dateFormat(%q) = %v, want %v", code, got, want)
+		}
+	}
+}
+
+// A date or a time of day where a number belongs, in a CSV file as in a
+// workbook, is ErrDateNotNumber; a number in scientific notation is not a
+// date.
+func TestParseNumberDates(t *testing.T) {
+	t.Parallel()
+	for _, s := range []string{"2026-06-01", "2026-06-01T10:15", "6/1/2026", "01.06.26", "1-6-2026", "10:15", "10:15:00"} {
+		if _, err := ParseNumber(s); !errors.Is(err, ErrDateNotNumber) {
+			t.Errorf("ParseNumber(%q): %v, want ErrDateNotNumber", s, err)
+		}
+	}
+	for _, s := range []string{"1e5", "-2.5", "12"} {
+		if _, err := ParseNumber(s); err != nil {
+			t.Errorf("ParseNumber(%q): %v", s, err)
+		}
+	}
+	if _, err := ParseNumber("1-6"); !errors.Is(err, ErrNotNumber) {
+		t.Errorf("ParseNumber(%q): %v, want ErrNotNumber", "1-6", err)
+	}
 }

@@ -11,6 +11,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"time"
 
 	"github.com/xuri/excelize/v2"
 
@@ -132,25 +133,34 @@ func openWorkbook(path string) (*inputBook, error) {
 }
 
 // inputBook is a workbook opened to be read, with the scan of the sheets
-// it reads (see sheetScanner).
+// it reads (see sheetScanner) and its date system.
 type inputBook struct {
 	*excelize.File
-	scans *sheetScanner
+	scans    *sheetScanner
+	date1904 bool
 }
 
 // shown rewrites the raw values of a row of a sheet (row is 1-based) as
 // a spreadsheet program shows them, where the two differ in a way a
 // reader must know: a boolean cell reads TRUE or FALSE (never a number),
-// and a number cell with a percent format reads as the percent shown
-// (0.05 as 5%), which only a column in percent takes (see
-// Table.percent) and every other number column refuses (ErrPercent).
+// a number cell with a percent format reads as the percent shown (0.05
+// as 5%), which only a column in percent takes (see Table.percent) and
+// every other number column refuses (ErrPercent), and a number cell with
+// a date or time format reads as the date shown, in ISO 8601 (see
+// dateShown), which a time column takes as it takes the serial and a
+// number column refuses (ErrDateNotNumber).
 func (f *inputBook) shown(sheet string, row int, rec []string) {
-	marks := f.scans.done[sheet].marks
-	if len(marks) == 0 {
+	sc := f.scans.done[sheet]
+	if len(sc.marks) == 0 && len(sc.dates) == 0 {
 		return
 	}
 	for i, raw := range rec {
-		switch marks[cellAt{int64(row), int64(i + 1)}] {
+		at := cellAt{int64(row), int64(i + 1)}
+		if len(sc.dates) > 0 && sc.dates.has(at.row, at.col) {
+			rec[i] = dateShown(raw, f.date1904)
+			continue
+		}
+		switch sc.marks[at] {
 		case markBoolean:
 			switch strings.TrimSpace(raw) {
 			case "1":
@@ -162,6 +172,31 @@ func (f *inputBook) shown(sheet string, row int, rec []string) {
 			rec[i] = percentShown(raw)
 		}
 	}
+}
+
+// dateShown writes the raw value of a date-formatted number cell as the
+// date it shows, in ISO 8601: a whole serial as its date (2026-06-01), a
+// serial with a time of day as its date and time to the second
+// (2026-06-01T10:15:00), a serial below 1 as a time of day alone
+// (10:15:00), in the workbook's date system (date1904). Any other value
+// is returned as it is.
+func dateShown(raw string, date1904 bool) string {
+	v, err := strconv.ParseFloat(strings.TrimSpace(raw), 64)
+	switch {
+	case err != nil || math.IsNaN(v) || v < 0 || v > MaxDateSerial:
+		return raw
+	case v < MinDateSerial:
+		sec := int64(math.Round(v * 86400))
+		return time.Unix(sec, 0).UTC().Format("15:04:05")
+	}
+	t, err := serialTime(v, date1904, ErrISOTime)
+	if err != nil {
+		return raw
+	}
+	if t.Hour() == 0 && t.Minute() == 0 && t.Second() == 0 {
+		return t.Format(time.DateOnly)
+	}
+	return t.Format("2006-01-02T15:04:05")
 }
 
 // percentShown writes the raw value of a percent-formatted number cell
@@ -198,7 +233,11 @@ func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	return &inputBook{File: f, scans: &sheetScanner{zr: zr}}, nil
+	b := &inputBook{File: f, scans: &sheetScanner{zr: zr}}
+	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
+		b.date1904 = *props.Date1904
+	}
+	return b, nil
 }
 
 // ErrFormulaNoValue is the cause of a formula cell whose value was never
@@ -540,9 +579,7 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	}
 	b.t.Sheets = sheets
 	b.t.Warnings = warnings
-	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
-		b.t.Date1904 = *props.Date1904
-	}
+	b.t.Date1904 = f.date1904
 	rows, err := f.Rows(sheet)
 	if err != nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
@@ -747,7 +784,9 @@ func (t *Table) percent(rec Record, col int) (v float64, ok bool, err error) {
 // A comma is refused: followed by three digits it may be a thousands
 // separator (ErrThousands), else it is a decimal comma (ErrDecimalComma);
 // a percent sign at the end is ErrPercent (only a column in percent takes
-// one, see Table.percent).
+// one, see Table.percent); a date or a time of day (2026-06-01, 6/1/2026,
+// 10:15, or a date-formatted workbook cell, see inputBook.shown) is
+// ErrDateNotNumber.
 func ParseNumber(s string) (float64, error) {
 	s = strings.TrimSpace(s)
 	comma := strings.IndexByte(s, ',') >= 0 // the patterns need one: most cells skip them
@@ -766,6 +805,9 @@ func ParseNumber(s string) (float64, error) {
 		return 0, subdivide.ErrNotFinite
 	}
 	if !decimalNumber(s) {
+		if dateLike(s) {
+			return 0, ErrDateNotNumber
+		}
 		return 0, ErrNotNumber
 	}
 	v, err := strconv.ParseFloat(s, 64)
@@ -777,6 +819,15 @@ func ParseNumber(s string) (float64, error) {
 	}
 	return v, nil
 }
+
+// datePattern matches the dates and times a spreadsheet makes of what
+// was typed into a cell: ISO 8601 dates (2026-06-01, 2026-06-01T10:15),
+// dates with slashes, dots or hyphens (6/1/2026, 01.06.26, 1-6-2026) and
+// times of day (10:15, 10:15:00).
+var datePattern = regexp.MustCompile(`^(\d{4}-\d{2}-\d{2}([T ]\d{1,2}:\d{2}(:\d{2})?)?|\d{1,2}[/.-]\d{1,2}[/.-]\d{2,4}|\d{1,2}:\d{2}(:\d{2})?)$`)
+
+// dateLike reports text that is a date or a time of day (datePattern).
+func dateLike(s string) bool { return datePattern.MatchString(s) }
 
 // decimalNumber reports whether s is a number in decimal notation: an
 // optional sign, digits with at most one decimal point, and an optional
