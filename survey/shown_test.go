@@ -503,7 +503,7 @@ func TestDateFormat(t *testing.T) {
 // date.
 func TestParseNumberDates(t *testing.T) {
 	t.Parallel()
-	for _, s := range []string{"2026-06-01", "2026-06-01T10:15", "6/1/2026", "01.06.26", "1-6-2026", "10:15", "10:15:00"} {
+	for _, s := range []string{"2026-06-01", "2026-06-01T10:15", "6/1/2026", "01.06.26", "1-6-2026", "10:15", "10:15:00", "1-Jun", "1 Jun 2026", "Jun-26", "jun"} {
 		if _, err := ParseNumber(s); !errors.Is(err, ErrDateNotNumber) {
 			t.Errorf("ParseNumber(%q): %v, want ErrDateNotNumber", s, err)
 		}
@@ -513,7 +513,9 @@ func TestParseNumberDates(t *testing.T) {
 			t.Errorf("ParseNumber(%q): %v", s, err)
 		}
 	}
-	if _, err := ParseNumber("1-6"); !errors.Is(err, ErrNotNumber) {
-		t.Errorf("ParseNumber(%q): %v, want ErrNotNumber", "1-6", err)
+	for _, s := range []string{"1-6", "june", "XS-1", "12 m"} {
+		if _, err := ParseNumber(s); !errors.Is(err, ErrNotNumber) {
+			t.Errorf("ParseNumber(%q): %v, want ErrNotNumber", s, err)
+		}
 	}
 }

@@ -822,9 +822,11 @@ func ParseNumber(s string) (float64, error) {
 
 // datePattern matches the dates and times a spreadsheet makes of what
 // was typed into a cell: ISO 8601 dates (2026-06-01, 2026-06-01T10:15),
-// dates with slashes, dots or hyphens (6/1/2026, 01.06.26, 1-6-2026) and
-// times of day (10:15, 10:15:00).
-var datePattern = regexp.MustCompile(`^(\d{4}-\d{2}-\d{2}([T ]\d{1,2}:\d{2}(:\d{2})?)?|\d{1,2}[/.-]\d{1,2}[/.-]\d{2,4}|\d{1,2}:\d{2}(:\d{2})?)$`)
+// dates with slashes, dots or hyphens (6/1/2026, 01.06.26, 1-6-2026),
+// dates with an English month name as spreadsheets export them (1-Jun,
+// 1 Jun 2026, Jun-26) and times of day (10:15, 10:15:00).
+var datePattern = regexp.MustCompile(`(?i)^(\d{4}-\d{2}-\d{2}([T ]\d{1,2}:\d{2}(:\d{2})?)?|\d{1,2}[/.-]\d{1,2}[/.-]\d{2,4}|\d{1,2}:\d{2}(:\d{2})?|` +
+	`(\d{1,2}[- ])?(jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)([- ]\d{1,4})?)$`)
 
 // dateLike reports text that is a date or a time of day (datePattern).
 func dateLike(s string) bool { return datePattern.MatchString(s) }
