@@ -62,7 +62,8 @@ const (
 )
 
 // RatingFromTable turns a table with the columns of RatingColumns and
-// ExtraRatingColumns into a rating table. Stage and discharge are
+// ExtraRatingColumns (stage also known as gauge_height) into a rating
+// table. Stage and discharge are
 // required in every row, within the bounds every rating table is read
 // with (a stage within ±MaxElevation, a discharge at most
 // rating.MaxDischarge; ErrImplausible at the cell beyond them), the
@@ -85,7 +86,7 @@ const (
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out := rating.Table{Name: sectionName(t), Units: choice.Units, Slope: math.NaN()}
 	out.Name = strings.TrimSuffix(out.Name, "-rating")
-	cs, err := t.Require("stage")
+	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
 	if err != nil {
 		return out, err
 	}

@@ -162,3 +162,32 @@ func TestRatingFromTableKind(t *testing.T) {
 		})
 	}
 }
+
+// Every reader of a rating table takes gauge_height for stage, as the
+// README's rating format says, and refuses a table giving both.
+func TestRatingGaugeHeight(t *testing.T) {
+	const body = "0.5,0\n1,2.5\n2,9\n"
+	readers := map[string]func(tab *Table) error{
+		"plot and compare (RatingFromTable)": func(tab *Table) error { _, err := RatingFromTable(tab, UnitChoice{}); return err },
+		"backwater boundary":                 func(tab *Table) error { _, err := BoundaryRatingFromTable(tab); return err },
+		"record and shifts":                  func(tab *Table) error { _, err := RatingTablesFromTable(tab, RatingTableOptions{}); return err },
+	}
+	for name, read := range readers {
+		for _, head := range []string{"gauge_height,discharge\n", "Gauge Height (m),discharge (m3/s)\n"} {
+			tab, err := ParseCSV(strings.NewReader(head+body), "r.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if err := read(tab); err != nil {
+				t.Errorf("%s, header %q: %v", name, strings.TrimSpace(head), err)
+			}
+		}
+		tab, err := ParseCSV(strings.NewReader("stage,gauge_height,discharge\n0.5,0.5,0\n1,1,2.5\n"), "r.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := read(tab); !errors.Is(err, ErrAliasColumns) {
+			t.Errorf("%s, both stage and gauge_height: %v, want ErrAliasColumns", name, err)
+		}
+	}
+}

@@ -711,7 +711,8 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 	return br, err
 }
 
-// BoundaryRatingFromTable reads the stage and discharge columns of t. Both
+// BoundaryRatingFromTable reads the stage (or gauge_height) and
+// discharge columns of t. Both
 // are required in every row, bounded as in RatingFromTable (ErrImplausible
 // at the cell), discharge not negative; of a leading run of
 // rows without flow (a rating table starts at the dry bed) only the last
@@ -719,7 +720,7 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 // cell is reported, each naming its row and column.
 func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 	out := BoundaryRating{File: t.File, Sheet: t.Sheet}
-	cs, err := t.Require(ColRatingStage)
+	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
 	if err != nil {
 		return out, err
 	}
