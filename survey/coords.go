@@ -89,10 +89,25 @@ var (
 	ErrFlowAlong  = errors.New("the flow direction runs along the section line, so it cannot tell left from right")
 )
 
-// coordinateColumns finds the easting and northing columns (or x, y).
-func coordinateColumns(t *Table) (ce, cn int, ok bool) {
-	ce, cn = t.Column(ColEasting, "x"), t.Column(ColNorthing, "y")
-	return ce, cn, ce >= 0 && cn >= 0
+// hasCoordinates reports a header with an easting (or x) and a northing
+// (or y) column, however many of their names it gives (the reader of the
+// survey refuses two).
+func hasCoordinates(t *Table) bool {
+	return t.Column(ColEasting, "x") >= 0 && t.Column(ColNorthing, "y") >= 0
+}
+
+// coordinateColumns finds the easting and northing columns (or x, y);
+// ok when both are there. A header naming one of them twice (easting and
+// x) is an error (ErrAliasColumns): the two may be grid and local
+// coordinates, and which were meant is not guessed.
+func coordinateColumns(t *Table) (ce, cn int, ok bool, err error) {
+	if ce, err = t.Optional(ColEasting, "x"); err != nil {
+		return -1, -1, false, err
+	}
+	if cn, err = t.Optional(ColNorthing, "y"); err != nil {
+		return -1, -1, false, err
+	}
+	return ce, cn, ce >= 0 && cn >= 0, nil
 }
 
 // projectPoints turns eastings and northings into stations along the
@@ -268,7 +283,7 @@ func stationOrder(t *Table, rows []Record, st []float64, pr *Projection) ([]int,
 	}
 	for k := 1; k < len(order); k++ {
 		if st[order[k]] < st[order[k-1]] {
-			ce, _, _ := coordinateColumns(t)
+			ce, _, _, _ := coordinateColumns(t)
 			return nil, t.At(rows[order[k]], ce, fmt.Errorf("%w (station %.3f after %.3f)", ErrFoldBack, st[order[k]], st[order[k-1]]))
 		}
 	}

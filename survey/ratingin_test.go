@@ -191,3 +191,30 @@ func TestRatingGaugeHeight(t *testing.T) {
 		}
 	}
 }
+
+// A survey naming one of its columns twice, under two of its names, is
+// refused at the later one: easting and x (perhaps grid and local
+// coordinates), northing and y, elevation and z, n and manning_n.
+func TestSectionAliasColumns(t *testing.T) {
+	for _, tc := range []struct {
+		header string
+		col    int
+	}{
+		{"easting,northing,x,elevation", 3},
+		{"x,y,easting,northing,elevation", 3},
+		{"easting,y,northing,elevation", 3},
+		{"station,elevation,z", 3},
+		{"station,elevation,n,manning_n", 4},
+	} {
+		cells := strings.Repeat("1,", strings.Count(tc.header, ","))
+		tab, err := ParseCSV(strings.NewReader(tc.header+"\n"+cells+"1\n"+cells+"2\n"), "s.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = SectionFromTable(tab, SectionOptions{})
+		var pe *ParseError
+		if !errors.Is(err, ErrAliasColumns) || !errors.As(err, &pe) || pe.Row != 1 || pe.Column != tc.col {
+			t.Errorf("%s: %v, want ErrAliasColumns at row 1, column %d", tc.header, err, tc.col)
+		}
+	}
+}

@@ -305,7 +305,7 @@ func (k TableKind) String() string {
 // elevation a survey.
 func KindOf(t *Table) TableKind {
 	rating := t.Column(ColRatingStage, ColGaugeHeight) >= 0 && t.Column(ColRatingDischarge) >= 0
-	_, _, coords := coordinateColumns(t)
+	coords := hasCoordinates(t)
 	section := (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0
 	switch {
 	case rating && section:

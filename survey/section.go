@@ -185,7 +185,11 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	var err error
 	r.cs, r.cx, r.cy = t.Column(ColStation), -1, -1
 	if r.cs < 0 {
-		if cx, cy, ok := coordinateColumns(t); ok {
+		cx, cy, ok, err := coordinateColumns(t)
+		if err != nil {
+			return r, err
+		}
+		if ok {
 			r.cx, r.cy, r.coords = cx, cy, true
 		}
 	}
@@ -200,7 +204,9 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
 		return r, err
 	}
-	r.cn = t.Column(ColN, "manning_n", "mannings_n")
+	if r.cn, err = t.Optional(ColN, "manning_n", "mannings_n"); err != nil {
+		return r, err
+	}
 	r.cm = t.Column(ColMark)
 	r.cnote = t.Column(ColNote)
 	return r, nil

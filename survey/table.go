@@ -688,6 +688,17 @@ func (t *Table) Require(names ...string) (int, error) {
 	return i, nil
 }
 
+// Optional returns the index of an optional column, known by any of
+// names as Require knows it, or -1 when the header has none. A header
+// holding it under two of its names is an error, as for Require
+// (ErrAliasColumns).
+func (t *Table) Optional(names ...string) (int, error) {
+	if t.Column(names...) < 0 {
+		return -1, nil
+	}
+	return t.Require(names...)
+}
+
 // At returns a ParseError positioned at a cell of a record.
 func (t *Table) At(rec Record, col int, err error) *ParseError {
 	pe := &ParseError{File: t.File, Sheet: t.Sheet, Row: rec.Row, Err: err}
@@ -948,7 +959,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}
-		_, _, coords := coordinateColumns(t)
+		coords := hasCoordinates(t)
 		return (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0, nil
 	}
 	return false, rows.Error()
