@@ -3,9 +3,12 @@ package main
 import (
 	"context"
 	"embed"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -90,9 +93,18 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 	if *out == "" || *out == "-" || fs.NArg() != 0 {
 		return usagef("demo: want -o DIR and no other arguments")
 	}
+	if err := demoFolder(*out); err != nil {
+		return err
+	}
 	var b strings.Builder
 	fmt.Fprintf(&b, "wetline demo: invented sites and data, written to %s\n", *out)
 	d := &demo{e: e, dir: *out}
+	if err := e.files.Write(d.path(demoMark), func(w io.Writer) error {
+		_, err := io.WriteString(w, "This folder was written by wetline demo, which may write into it again.\n")
+		return err
+	}); err != nil {
+		return err
+	}
 	seen := map[string]bool{}
 	for _, step := range demoSteps() {
 		if step.heading != "" {
@@ -119,6 +131,30 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 	b.WriteString("\ncaution: " + rating.Caution + "\n")
 	_, err := io.WriteString(e.stdout, b.String())
 	return err
+}
+
+// demoMark names the file that marks a folder as the demo's own, so that
+// demo writes into it again; any other folder must be new or empty.
+const demoMark = ".wetline-demo"
+
+// demoFolder refuses a demo folder that holds files the demo did not
+// write: an existing folder must be empty or marked by an earlier demo
+// (demoMark), since the demo writes its files under fixed names and would
+// replace a user's file of one of them.
+func demoFolder(dir string) error {
+	ents, err := os.ReadDir(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return nil
+	case err != nil:
+		return usagef("demo: -o %s: %v", dir, err)
+	case len(ents) == 0:
+		return nil
+	}
+	if fi, err := os.Lstat(filepath.Join(dir, demoMark)); err == nil && fi.Mode().IsRegular() {
+		return nil
+	}
+	return usagef("demo: -o %s holds files an earlier demo did not write (such as %s): give a new or empty folder", dir, ents[0].Name())
 }
 
 // path returns the path of a demo file.

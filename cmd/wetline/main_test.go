@@ -280,3 +280,33 @@ func TestListFlagsBounded(t *testing.T) {
 		})
 	}
 }
+
+// The demo writes only into a new or empty folder, or one an earlier demo
+// marked as its own: a folder holding a user's file of one of the demo's
+// names is refused (exit 2) and left as it was.
+func TestDemoFolder(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	if fi, err := os.Stat(filepath.Join(dir, demoMark)); err != nil || !fi.Mode().IsRegular() {
+		t.Fatalf("the demo folder is not marked: %v", err)
+	}
+	if err := demoFolder(dir); err != nil {
+		t.Errorf("an earlier demo's folder: %v", err)
+	}
+	mine := filepath.Join(t.TempDir(), "mine")
+	if err := os.Mkdir(mine, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	survey := filepath.Join(mine, demoSurvey)
+	if err := os.WriteFile(survey, []byte("my own survey\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errs, code := runCLI(t, "demo", "-o", mine)
+	if code != 2 || !strings.Contains(errs, "holds files an earlier demo did not write") {
+		t.Errorf("demo into a user's folder: exit %d, %q", code, errs)
+	}
+	ents, _ := os.ReadDir(mine)
+	if data, _ := os.ReadFile(survey); string(data) != "my own survey\n" || len(ents) != 1 {
+		t.Errorf("the user's folder changed: %d entries, survey %q", len(ents), data)
+	}
+}
