@@ -169,7 +169,33 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",
 			filepath.Base(t.File)))
 	}
+	if w := fallingDischarge(filepath.Base(t.File), out.Rows); w != "" {
+		out.Warnings = append(out.Warnings, w)
+	}
 	return out, nil
+}
+
+// fallingDischarge words the warning of a table whose discharge falls as
+// stage rises (its rows in rising stage), "" when it never does: a
+// rating's discharge rises with stage, so the table may not be a rating,
+// or its section's conveyance drops where a floodplain starts to wet.
+func fallingDischarge(name string, rows []rating.Row) string {
+	n, first := 0, -1
+	for i := 1; i < len(rows); i++ {
+		if rows[i].Discharge < rows[i-1].Discharge {
+			if first < 0 {
+				first = i
+			}
+			n++
+		}
+	}
+	if n == 0 {
+		return ""
+	}
+	a, b := rows[first-1], rows[first]
+	return fmt.Sprintf("%s: discharge falls as stage rises at %d row(s), the first from %g at %g to %g at %g: "+
+		"a rating's discharge rises with stage; check the table (a section's conveyance can drop where a floodplain starts to wet)",
+		name, n, a.Discharge, a.Stage, b.Discharge, b.Stage)
 }
 
 // uniformSlope returns the friction slope (Q/K)² shared by every row with

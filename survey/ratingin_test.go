@@ -218,3 +218,33 @@ func TestSectionAliasColumns(t *testing.T) {
 		}
 	}
 }
+
+// A rating table whose discharge falls as stage rises is read, with a
+// warning naming the first such row; one whose discharge never falls
+// gets none.
+func TestRatingFallingDischarge(t *testing.T) {
+	for _, tc := range []struct {
+		body, want string
+	}{
+		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n4,5,3\n", "discharge falls as stage rises at 1 row(s), the first from 3 at 2 to 2 at 3"},
+		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,3,2\n4,5,3\n", ""},
+	} {
+		tab, err := RatingFromTable(mustCSV(t, tc.body), UnitChoice{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := strings.Join(tab.Warnings, "\n")
+		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
+			t.Errorf("%q: warnings %q, want %q", tc.body, got, tc.want)
+		}
+	}
+}
+
+func mustCSV(t *testing.T, body string) *Table {
+	t.Helper()
+	tab, err := ParseCSV(strings.NewReader(body), "r.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tab
+}
