@@ -538,8 +538,9 @@ func (s solver) energy(h, q float64) (float64, error) {
 // energy of discharge q in g. With α constant the minimum lies at the
 // critical depth (Chow, 1959, section 3-2); where α varies with stage the
 // energy itself is minimised: the range up to the highest critical stage
-// (doubled in depth) is scanned and each local minimum refined by
-// golden-section search; the least is returned.
+// (doubled in depth, or to the section's top when that is lower but at
+// least a quarter of that depth above it) is scanned and each local
+// minimum refined by golden-section search; the least is returned.
 //
 // References:
 //
@@ -581,8 +582,12 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 	}
 	s := newSolver(g, opt)
 	lo := s.g.Bottom()
-	hi := crit[len(crit)-1].Stage
-	hi = math.Min(lo+2*(hi-lo), math.Max(hi, s.g.Top()))
+	// Up to twice the depth of the highest critical stage, and never to
+	// less than a quarter of that depth above it: a minimum at that stage
+	// must lie inside the scan, which finds only interior minima, even
+	// when it stands in the walls above the section's ends.
+	hc := crit[len(crit)-1].Stage
+	hi := math.Min(lo+2*(hc-lo), math.Max(hc+(hc-lo)/4, s.g.Top()))
 	if closed, err := s.closed(); err != nil {
 		return EnergyPoint{}, nil, err
 	} else if closed {

@@ -646,6 +646,10 @@ func TestCriticalStageExtremum(t *testing.T) {
 	const g = 9.80665
 	yc := math.Cbrt(2.5 * 2.5 / g)
 	compound := mustShape(t, "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", 0.03)
+	shallowRect, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 1, 0, 0, 2, 0, 2, 1), N: []float64{0.015, 0.015, 0.015}})
+	if err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		name      string
 		geom      subdivide.Geometry
@@ -657,6 +661,10 @@ func TestCriticalStageExtremum(t *testing.T) {
 	}{
 		{"rectangle", mustShape(t, "rectangle:width=2", 0.015), 5, []string{EnergyMinimum}, []bool{true}, 1.5 * yc, 1},
 		{"compound", compound, 20, []string{EnergyMinimum, EnergyNoExtremum, EnergyNoExtremum}, []bool{true, false, false}, math.NaN(), 2},
+		// A rectangle 2 m wide and 1 m deep carrying 25 m³/s: its critical
+		// depth, cbrt(12.5²/g) = 2.52 m, stands in the walls above its
+		// ends, which keep it a 2 m rectangle, so Emin = 1.5·yc still.
+		{"rectangle, critical stage in the walls", shallowRect, 25, []string{EnergyMinimum}, []bool{true}, 1.5 * math.Cbrt(12.5*12.5/g), 1},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			sol, err := Solve(tc.geom, tc.q, Options{})
