@@ -40,7 +40,9 @@ const (
 // the principal axis, and left from the pins, else from the survey order.
 type CoordinateOptions struct {
 	// Line, when Given, is the section line through (E1, N1) and (E2, N2)
-	// (length unit), E1, N1 the left end.
+	// (length unit), E1, N1 the left end, where stations count from; when
+	// the pins or the flow direction put it on the right bank, stations
+	// count from E2, N2 (Projection.LineTurned).
 	Line  [4]float64
 	Given bool
 	// FlowAzimuth, when FlowGiven, is the direction the water flows, in
@@ -79,6 +81,10 @@ type Projection struct {
 	// PinsDisagree reports a flow direction given that puts the pin
 	// marked left pin on the right bank.
 	PinsDisagree bool
+	// LineTurned reports a line given whose first point the pins or the
+	// flow direction put on the right bank: stations count from its
+	// second point, the left end.
+	LineTurned bool
 }
 
 // Causes of a coordinate survey that cannot be projected, for errors.Is.
@@ -122,6 +128,11 @@ func projectPoints(t *Table, rows []Record, e, n []float64, marks []string, opt 
 	}
 	if err := orient(t, rows, e, n, marks, opt, &dx, &dy, &pr); err != nil {
 		return nil, nil, pr, err
+	}
+	if pr.Line == LineGiven && (opt.Line[2]-opt.Line[0])*dx+(opt.Line[3]-opt.Line[1])*dy < 0 {
+		// The pins or the flow direction put the line's first point on
+		// the right bank: its second point is the left end.
+		x0, y0, pr.LineTurned = opt.Line[2], opt.Line[3], true
 	}
 	st := make([]float64, len(e))
 	pr.Offsets = make([]float64, len(e))
@@ -423,6 +434,10 @@ func (r *sectionReader) offsetWarnings(recs []Record, feet bool) {
 	}
 	if far > maxOffsetWarnings {
 		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: %d more points lie off the section line by more than %g%s", where(t, t.HeaderRow), far-maxOffsetWarnings, pr.Tolerance, unit))
+	}
+	if pr.LineTurned {
+		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: the line given starts on the right bank (left bank from %s): stations count from its second point, the left end; give the line from its left end",
+			where(t, t.HeaderRow), pr.Left))
 	}
 	if pr.PinsDisagree {
 		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: the flow direction given puts the point marked %s on the right bank: the left bank was taken from the flow direction; check the pins' names and the azimuth",

@@ -204,6 +204,30 @@ func TestCoordinateSurveyLineGiven(t *testing.T) {
 	}
 }
 
+// A line given from its right end, by the pins, is turned: stations
+// count from its second point, the left end, and a warning says so. The
+// line here is the one of TestCoordinateSurveyLineGiven written the other
+// way round, so the stations and offsets are that test's.
+func TestCoordinateSurveyLineGivenTurned(t *testing.T) {
+	st := []float64{2, 5, 9, 12}
+	off := []float64{0.1, 0, -0.1, 0.3}
+	text := skewedLine(10, 20, 45, st, off, []float64{5, 1, 1, 5}, []string{"0.04", "", "", ""}, []string{"left pin", "", "", "right pin"})
+	th := 45 * math.Pi / 180
+	opt := CoordinateOptions{Given: true, Line: [4]float64{10 + 50*math.Sin(th), 20 + 50*math.Cos(th), 10, 20}}
+	sv, err := ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{Coordinates: opt})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range sv.Section.Points {
+		if !closeRel(p.Station, st[i], 1e-9, 1e-9) || !closeRel(sv.Projection.Offsets[i], off[i], 1e-9, 1e-9) {
+			t.Errorf("point %d: station %.12g offset %.12g, want %g %g", i, p.Station, sv.Projection.Offsets[i], st[i], off[i])
+		}
+	}
+	if !sv.Projection.LineTurned || !strings.Contains(strings.Join(sv.Warnings, "\n"), "the line given starts on the right bank") {
+		t.Errorf("turned %v, warnings %q", sv.Projection.LineTurned, sv.Warnings)
+	}
+}
+
 // Points far off the line are warned about, at their row and column,
 // with their unit (metres: the headers name none and feet were not asked
 // for; the default tolerance 0.5 m).
