@@ -327,7 +327,7 @@ func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
 	}
 	if warned > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"log–log panel: %d rating point(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+			"log–log panel: %d rating point(s) with flow at or below the gauge height of zero flow (%s %s), or with negative discharge, left out (dry points below it are left out unsaid)",
 			warned, fmtStage(e), un.length))
 	}
 }

@@ -120,8 +120,13 @@ const MaxStages = 1_000_000
 // the range. Stages of decimal steps are exact decimals: from 100.3 in
 // steps of 0.1 the 34th stage is 103.6, not 103.60000000000001.
 func StageRange(from, to, step float64) ([]float64, error) {
-	if !finiteAll(from, to, step) || !(step > 0) || to < from {
-		return nil, fmt.Errorf("%w: from %g to %g step %g: need from ≤ to and step > 0", ErrStages, from, to, step)
+	switch {
+	case !finiteAll(from, to, step):
+		return nil, fmt.Errorf("%w: from %g to %g step %g: not finite", ErrStages, from, to, step)
+	case to < from:
+		return nil, fmt.Errorf("%w: from %g to %g: the range must rise (from ≤ to)", ErrStages, from, to)
+	case !(step > 0):
+		return nil, fmt.Errorf("%w: step %g: the step must be positive", ErrStages, step)
 	}
 	n := math.Floor((to-from)/step + StageEpsilon)
 	if n+2 > MaxStages {

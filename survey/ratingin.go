@@ -84,8 +84,7 @@ const (
 // KindFitted for a table with a rating fit's columns, else "". Every bad
 // cell is reported, each naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
-	out := rating.Table{Name: sectionName(t), Units: choice.Units, Slope: math.NaN()}
-	out.Name = strings.TrimSuffix(out.Name, "-rating")
+	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN()}
 	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
 	if err != nil {
 		return out, err
@@ -173,6 +172,19 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 		out.Warnings = append(out.Warnings, w)
 	}
 	return out, nil
+}
+
+// ratingSection names the section of a rating table: its sheet's name, but
+// for a sheet named only "rating" (a results workbook's) the workbook's
+// name; a file's name otherwise; without the "-rating" and "-results"
+// that rate's outputs add to the section's name.
+func ratingSection(t *Table) string {
+	name := sectionName(t)
+	if t.Sheet != "" && strings.EqualFold(t.Sheet, "rating") {
+		base := filepath.Base(t.File)
+		name = strings.TrimSuffix(base, filepath.Ext(base))
+	}
+	return strings.TrimSuffix(strings.TrimSuffix(name, "-results"), "-rating")
 }
 
 // fallingDischarge words the warning of a table whose discharge falls as

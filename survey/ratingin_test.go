@@ -248,3 +248,19 @@ func mustCSV(t *testing.T, body string) *Table {
 	}
 	return tab
 }
+
+// A rating table is named for its section: by its sheet, but by the
+// workbook for a results workbook's "rating" sheet, without the suffixes
+// rate's outputs add.
+func TestRatingSection(t *testing.T) {
+	for _, tc := range []struct{ file, sheet, want string }{
+		{"out/kus.xlsx", "rating", "kus"},
+		{"tallow-xs1-results.xlsx", "Rating", "tallow-xs1"},
+		{"tallow-xs1-rating.csv", "", "tallow-xs1"},
+		{"field.xlsx", "XS-2", "XS-2"},
+	} {
+		if got := ratingSection(&Table{File: tc.file, Sheet: tc.sheet}); got != tc.want {
+			t.Errorf("%s['%s']: %q, want %q", tc.file, tc.sheet, got, tc.want)
+		}
+	}
+}

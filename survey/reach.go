@@ -200,8 +200,11 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 			continue
 		}
 		if row.Sheet == "" {
-			if st, err := os.Stat(row.Path); err != nil || st.IsDir() {
+			if st, err := os.Stat(row.Path); err != nil {
 				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path)))
+				continue
+			} else if st.IsDir() {
+				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s is a folder: name the survey file in it)", ErrSurveyAbsent, row.Path)))
 				continue
 			}
 		}

@@ -39,6 +39,9 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 			}
 		}
 	}
+	if err := batch.CheckFolders(fs.Args()); err != nil {
+		return err
+	}
 	var format string
 	var err error
 	if f.long {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -347,6 +348,10 @@ func outputFormat(cmd, flag, output string, allowed ...string) (string, error) {
 // chooseFormat picks the format of --format, else of the -o extension,
 // else the first allowed.
 func chooseFormat(cmd, flag, output string, allowed []string) (string, error) {
+	if st, err := os.Stat(output); err == nil && st.IsDir() && output != "-" {
+		return "", usagef("%s: -o %s is a folder: name a file (such as %s)", cmd, output,
+			filepath.Join(output, cmd+"."+extensions(allowed)[0]))
+	}
 	f := strings.ToLower(flag)
 	if f != "" {
 		for _, a := range allowed {

@@ -51,8 +51,11 @@ func (f *rateFlags) register(fs *flagSet) {
 
 // check validates the flags that need no data.
 func (f *rateFlags) check(fs *flagSet) error {
-	if !fs.Changed("slope") || !(f.slope > 0) {
+	if !fs.Changed("slope") {
 		return usagef("rate: --slope S (a positive friction slope) is required")
+	}
+	if !(f.slope > 0) {
+		return usagef("rate: --slope %g: the friction slope must be positive", f.slope)
 	}
 	if err := fs.positive("step"); err != nil {
 		return err

@@ -96,6 +96,21 @@ func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, erro
 	return jobs, files, warnings, nil
 }
 
+// CheckFolders returns the error of the first folder among args that
+// holds no survey file (wrapping ErrNoSurveys), nil when each folder holds
+// one; files are not looked at. A command checks its folders so before
+// asking how a batch is to be written.
+func CheckFolders(args []string) error {
+	for _, a := range args {
+		if st, err := os.Stat(a); err == nil && st.IsDir() {
+			if _, err := surveyFiles(a); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
 // surveyFiles lists the survey files of a folder in name order.
 func surveyFiles(dir string) ([]string, error) {
 	ents, err := os.ReadDir(dir)
