@@ -181,3 +181,43 @@ func TestHelpDurations(t *testing.T) {
 		}
 	}
 }
+
+// Messages say what is wrong: a folder of no surveys, -o naming a folder,
+// a slope that is not positive, a falling stage range, a reach survey that
+// is a folder.
+func TestPlainMessages(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	p := func(name string) string { return filepath.Join(dir, name) }
+	for _, d := range []string{"empty", "out", "reach/xs2"} {
+		if err := os.MkdirAll(p(d), 0o755); err != nil {
+			t.Fatal(err)
+		}
+	}
+	xs := p("reach/xs1.csv")
+	if err := os.WriteFile(xs, []byte("station,elevation,n\n0,3,0.035\n4,0,0.035\n8,3\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	reach := p("reach/reach.csv")
+	if err := os.WriteFile(reach, []byte("section,survey,distance,ws_left,ws_right\nXS-1,xs1.csv,0,2,2\nXS-2,xs2,100,1.9,1.9\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"folder without surveys", []string{"rate", p("empty"), "--slope", "0.001"}, 1, "no survey files (.csv, .xlsx) in the folder"},
+		{"-o a folder", []string{"rate", xs, "--slope", "0.001", "-o", p("out")}, 2, "-o " + p("out") + " is a folder: name a file"},
+		{"-o a folder, format given", []string{"rate", xs, "--slope", "0.001", "--format", "json", "-o", p("out")}, 2, "is a folder: name a file"},
+		{"negative slope", []string{"rate", xs, "--slope", "-0.001"}, 2, "--slope -0.001: the friction slope must be positive"},
+		{"falling range", []string{"rate", xs, "--slope", "0.001", "--from", "2", "--to", "1"}, 2, "from 2 to 1: the range must rise"},
+		{"reach survey a folder", []string{"slopearea", reach}, 1, "xs2 is a folder: name the survey file in it"},
+	} {
+		_, errs, code := runCLI(t, tc.args...)
+		if code != tc.code || !strings.Contains(errs, tc.want) || strings.Contains(errs, "step 1") {
+			t.Errorf("%s: exit %d, %q; want exit %d and %q", tc.name, code, errs, tc.code, tc.want)
+		}
+	}
+}
