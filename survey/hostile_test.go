@@ -246,3 +246,30 @@ func TestLimitVariables(t *testing.T) {
 		}
 	}
 }
+
+// A JSON report given where a table belongs is named as JSON, by every
+// CSV reader (the in-memory and the streamed); a header that merely starts
+// with a bracket is a table.
+func TestJSONInput(t *testing.T) {
+	dir := t.TempDir()
+	for name, text := range map[string]string{
+		"object.csv": "{\n  \"units\": \"si\",\n  \"rows\": []\n}\n",
+		"array.csv":  "  [{\"stage\": 1}]\n",
+		"empty.csv":  "{}",
+	} {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := ReadTable(p, ""); !errors.Is(err, ErrJSONInput) {
+			t.Errorf("%s, table: %v, want ErrJSONInput", name, err)
+		}
+		if _, err := ReadStageRecord(p, StageRecordOptions{}); !errors.Is(err, ErrJSONInput) {
+			t.Errorf("%s, stage record: %v, want ErrJSONInput", name, err)
+		}
+	}
+	tab, err := ParseCSV(strings.NewReader("[m] station,elevation\n0,1\n"), "b.csv")
+	if err != nil || tab.Header[0] != "[m] station" {
+		t.Errorf("a header starting with a bracket: %v, %v", tab, err)
+	}
+}

@@ -58,6 +58,7 @@ var (
 	ErrCROnly          = errors.New("ends its lines with carriage returns only (no line feeds): save it with Windows or Unix line endings")
 	ErrSeparatorHint   = errors.New("names a separator other than a comma on its first line: save it as comma-separated values")
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
+	ErrJSONInput       = errors.New("is JSON, not a table: give the CSV table (or the workbook) the report was written beside")
 )
 
 // ErrLimitValue is the cause of a limit variable (EnvMaxBytes, EnvMaxRows,
@@ -188,8 +189,8 @@ func sniffText(data []byte, name string) error {
 }
 
 // sniffKind refuses a file whose head (its first sniffBytes, after a
-// byte-order mark) shows it is no text: a workbook, UTF-16 text or binary
-// data.
+// byte-order mark) shows it is no text table: a workbook, UTF-16 text,
+// binary data or JSON.
 func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
@@ -202,8 +203,30 @@ func sniffKind(head []byte, name string) error {
 			return fail(ErrUTF16)
 		}
 		return fail(ErrBinary)
+	case jsonLike(head):
+		return fail(ErrJSONInput)
 	}
 	return nil
+}
+
+// jsonLike reports text that opens as a JSON object or array does: a
+// brace or a bracket, then (spaces aside) a quoted key, a value or the
+// close. No table's header starts so.
+func jsonLike(head []byte) bool {
+	t := bytes.TrimLeft(head, " \t\r\n")
+	if len(t) < 2 || (t[0] != '{' && t[0] != '[') {
+		return false
+	}
+	rest := bytes.TrimLeft(t[1:], " \t\r\n")
+	if len(rest) == 0 {
+		return false
+	}
+	switch c := rest[0]; {
+	case t[0] == '{':
+		return c == '"' || c == '}'
+	default:
+		return c == '{' || c == '[' || c == '"' || c == ']' || c == '-' || (c >= '0' && c <= '9')
+	}
 }
 
 // utf8Error returns nil for UTF-8 text, else a ParseError (ErrNotUTF8) at
