@@ -79,6 +79,9 @@ type rowWriter struct {
 	b     []byte   // the row
 	cell  []byte   // one cell, for padding
 	words []string // record.FlagWords()
+	// qualities holds the record's quality words as JSON values ("null"
+	// for a blank one), by index, made once for the unit rows.
+	qualities [][]byte
 }
 
 func newRowWriter(w io.Writer) *rowWriter {
@@ -244,8 +247,8 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 // WriteRecordJSON writes a record as one JSON object whose keys are, in
 // order,
 //
-//	{"unit": [{"time", "stage", "shift", "effective_stage", "discharge", "flags"}],
-//	 "daily": [{"date", "mean", "min", "max", "max_time", "coverage", "flags"}],
+//	{"unit": [{"time", "stage", "shift", "effective_stage", "discharge", "flags", "rating_period", "quality"}],
+//	 "daily": [{"date", "mean", "min", "max", "max_time", "coverage", "flags", "min_time", "readings"}],
 //	 "ratings", "shifts", "warnings", "caution", "site", "units"}
 //
 // unit or daily is null when the table was not asked for. Times are ISO
@@ -262,6 +265,16 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error {
 	tables = DefaultTables(tables, "json")
 	rw := newRowWriter(w)
+	for _, q := range res.Qualities {
+		v := []byte("null")
+		if q != "" {
+			var err error
+			if v, err = json.Marshal(q); err != nil {
+				return err
+			}
+		}
+		rw.qualities = append(rw.qualities, v)
+	}
 	rw.w.WriteString("{\n  \"unit\": ")
 	if tables&UnitTable == 0 {
 		rw.w.WriteString("null")
@@ -352,7 +365,19 @@ func (rw *rowWriter) unitJSON(res *record.Result, i int) error {
 	b = appendJSONNumber(appendFloat6(b, u.Discharge), len(b))
 	b = append(b, ", \"flags\": ["...)
 	b = rw.appendFlags(b, u.Flags, ", ", true)
-	b = append(b, "]}"...)
+	b = append(b, "], \"rating_period\": "...)
+	if u.Period >= 0 {
+		b = strconv.AppendInt(b, int64(u.Period)+1, 10)
+	} else {
+		b = append(b, "null"...)
+	}
+	b = append(b, ", \"quality\": "...)
+	if int(u.Quality) < len(rw.qualities) {
+		b = append(b, rw.qualities[u.Quality]...)
+	} else {
+		b = append(b, "null"...)
+	}
+	b = append(b, '}')
 	rw.b = b
 	_, err := rw.w.Write(b)
 	return err
@@ -384,7 +409,17 @@ func (rw *rowWriter) dailyJSON(d record.DailyValue, z *time.Location, first bool
 	b = appendJSONNumber(appendFloat6(b, d.Coverage), len(b))
 	b = append(b, ", \"flags\": ["...)
 	b = rw.appendFlags(b, d.Flags, ", ", true)
-	b = append(b, "]}"...)
+	b = append(b, "], \"min_time\": "...)
+	if d.MinTime.IsZero() {
+		b = append(b, "null"...)
+	} else {
+		b = append(b, '"')
+		b = d.MinTime.In(z).AppendFormat(b, RecordTimeLayout)
+		b = append(b, '"')
+	}
+	b = append(b, ", \"readings\": "...)
+	b = strconv.AppendInt(b, int64(d.Readings), 10)
+	b = append(b, '}')
 	rw.b = b
 	_, err := rw.w.Write(b)
 	return err

@@ -92,13 +92,25 @@ func TestRecordJSONNulls(t *testing.T) {
 		t.Fatalf("not JSON:\n%.400s", b.String())
 	}
 	var doc struct {
-		Unit []struct{ Discharge *float64 }
+		Unit []struct {
+			Discharge    *float64
+			Quality      *string
+			RatingPeriod *int `json:"rating_period"`
+		}
 	}
 	if err := json.Unmarshal(b.Bytes(), &doc); err != nil {
 		t.Fatal(err)
 	}
 	if doc.Unit[3].Discharge != nil || doc.Unit[2].Discharge == nil {
 		t.Errorf("discharges %v %v", doc.Unit[2].Discharge, doc.Unit[3].Discharge)
+	}
+	// Reading 96 is marked ice (testRecord), reading 95 has no quality;
+	// every reading is rated by the one period.
+	if q := doc.Unit[96].Quality; q == nil || *q != "ice" || doc.Unit[95].Quality != nil {
+		t.Errorf("qualities %v %v, want null and ice", doc.Unit[95].Quality, q)
+	}
+	if p := doc.Unit[0].RatingPeriod; p == nil || *p != 1 {
+		t.Errorf("rating period %v, want 1", p)
 	}
 }
 
