@@ -581,3 +581,20 @@ func TestDemoFitStatesDatum(t *testing.T) {
 		}
 	}
 }
+
+// A breakpoint above every gauging leaves a control with none: on weak
+// priors (no section) both methods refuse it with exit status 1, as for
+// other gaugings that cannot carry the fit, the Bayesian fit naming the
+// control and its priors. The demo gaugings reach 2.96 m (demodata).
+func TestFitBreakAboveGaugingsRefused(t *testing.T) {
+	t.Parallel()
+	for _, method := range []string{"bayes", "lsq"} {
+		out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", method, "--breaks", "3.5")
+		if code != 1 || out != "" || !strings.Contains(errs, "leave") {
+			t.Errorf("%s: exit %d, stdout %q, stderr %q", method, code, out, errs)
+		}
+		if method == "bayes" && !strings.Contains(errs, "control 2 (from 3.5 m up) with 0 of the gaugings used") {
+			t.Errorf("bayes: stderr %q does not name the empty control", errs)
+		}
+	}
+}

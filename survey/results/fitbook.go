@@ -197,7 +197,7 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		p := fmt.Sprintf("control %d: ", j+1)
 		lo, hi := exponentBounds(f, j)
 		add(p+"kind and joint", fmt.Sprintf("%s, %s (exponents %.3g to %.3g expected)", c.Kind, c.Joint, lo, hi), "")
-		add(p+"stages", fmt.Sprintf("%.3f to %.3f", c.From, segmentTo(f, j)), L)
+		add(p+"stages", segmentStages(f, j, ""), L)
 		add(p+"coefficient A", num("0.00000", c.A), "")
 		add(p+"uncertainty of A", num("0.00000", c.ASE), "")
 		add(p+"offset B", num("0.0000", c.B), L)
