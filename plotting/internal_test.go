@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -129,4 +130,47 @@ func containsRound(v float64) bool {
 func vgRect(w, h float64) (r vg.Rectangle) {
 	r.Max.X, r.Max.Y = vg.Length(w), vg.Length(h)
 	return r
+}
+
+// TestRatingAxesHoldErrorBars: both panels of a rating figure span every
+// gauging's error bar end to end, Q·(1 ∓ U/100), not only the points.
+// Curve Q = 8·(h − 0.3)² from 0.5 to 2.7 m (invented, 46.08 m³/s at the
+// top); the top gauging there at ±12 % reaches 46.08·1.12 = 51.61 m³/s,
+// past the log panel's round top of 50; the lowest, 0.1 m³/s at ±12 %,
+// reaches down to 0.088, below its round bottom of 0.1 (hand values).
+func TestRatingAxesHoldErrorBars(t *testing.T) {
+	var curve []RatingPoint
+	for h := 0.5; h <= 2.7+1e-9; h += 0.1 {
+		curve = append(curve, RatingPoint{Stage: h, Discharge: 8 * (h - 0.3) * (h - 0.3)})
+	}
+	gs := []Gauging{
+		{Stage: 0.5, Discharge: 0.1, Quality: rating.Poor, Uncertainty: 12},
+		{Stage: 1.5, Discharge: 11.5, Quality: rating.Good},
+		{Stage: 2.7, Discharge: 46.08, Quality: rating.Poor, Uncertainty: 12},
+		{Stage: 2.0, Discharge: 23.1, Quality: rating.Unrated}, // no bar (unrated, no uncertainty)
+	}
+	r := RatingPlot{Units: rating.SI, Fitted: Curve{Points: curve}, Gaugings: gs, ZeroFlow: 0.3, HasZeroFlow: true}
+	d, _ := cleanRatingLines(r)
+	un := names(rating.SI)
+	lin := linearRatingPanel(r, d, un, 0.3, true)
+	var res Result
+	lg := logRatingPanel(d, un, 0.3, &res)
+	if lg == nil {
+		t.Fatal("no log panel")
+	}
+	for _, g := range gs {
+		lo, hi, ok := g.barEnds()
+		if !ok {
+			continue
+		}
+		if lo < lin.X.Min || hi > lin.X.Max {
+			t.Errorf("linear panel %g to %g does not hold the bar %g to %g of the gauging at %g m", lin.X.Min, lin.X.Max, lo, hi, g.Stage)
+		}
+		if lo < lg.X.Min || hi > lg.X.Max {
+			t.Errorf("log panel %g to %g does not hold the bar %g to %g of the gauging at %g m", lg.X.Min, lg.X.Max, lo, hi, g.Stage)
+		}
+	}
+	if _, _, ok := gs[3].barEnds(); ok {
+		t.Error("an unrated gauging without an uncertainty has a bar")
+	}
 }

@@ -78,6 +78,24 @@ func (g Gauging) barPercent(q rating.Quality) (float64, bool) {
 	return qualityBand(q)
 }
 
+// barEnds are the discharges at the ends of a gauging's error bar,
+// Q·(1 ∓ U/100), and false when it has none.
+func (g Gauging) barEnds() (lo, hi float64, ok bool) {
+	pct, ok := g.barPercent(g.quality())
+	if !ok {
+		return 0, 0, false
+	}
+	return g.Discharge * (1 - pct/100), g.Discharge * (1 + pct/100), true
+}
+
+// quality is the gauging's quality, unrated when it has none.
+func (g Gauging) quality() rating.Quality {
+	if g.Quality.String() == "" {
+		return rating.Unrated
+	}
+	return g.Quality
+}
+
 // Colours of the lines of a fitted rating figure beyond the style's own.
 var (
 	colTotalBand = color.NRGBA{R: 0xf3, G: 0xd2, B: 0xb0, A: 0x70} // paler copper, translucent
@@ -393,6 +411,10 @@ func logExtent(hyd, fit []RatingPoint, band []BandPoint, gs []Gauging, e float64
 	}
 	for _, g := range gs {
 		add(g.Discharge, g.Stage-e)
+		if lo, hi, ok := g.barEnds(); ok && g.Discharge > 0 {
+			add(lo, g.Stage-e) // a bar end at or below zero is not drawn
+			add(hi, g.Stage-e)
+		}
 	}
 	for _, b := range band {
 		if b.Stage-e > 0 {
@@ -633,10 +655,7 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 				continue
 			}
 		}
-		q := g.Quality
-		if q.String() == "" {
-			q = rating.Unrated
-		}
+		q := g.quality()
 		k := gaugingKey{q, g.Excluded}
 		st := gaugingStyle(q)
 		if g.Excluded {
@@ -644,7 +663,8 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 		}
 		groups[k] = append(groups[k], plotter.XY{X: g.Discharge, Y: y})
 		if pct, ok := g.barPercent(q); ok {
-			bars = append(bars, hbar{y: y, x0: g.Discharge * (1 - pct/100), x1: g.Discharge * (1 + pct/100), color: st.Color})
+			x0, x1, _ := g.barEnds()
+			bars = append(bars, hbar{y: y, x0: x0, x1: x1, color: st.Color})
 			if pcts[k] == nil {
 				pcts[k] = map[float64]bool{}
 			}
@@ -706,6 +726,18 @@ type hbar struct {
 
 // hbars draws horizontal bars (a gauging's quality band) with end ticks.
 type hbars []hbar
+
+// DataRange spans every bar from end to end, so that a panel's axes hold
+// the bars whole (a log panel sets its range itself: logExtent).
+func (b hbars) DataRange() (xmin, xmax, ymin, ymax float64) {
+	xmin, ymin = math.Inf(1), math.Inf(1)
+	xmax, ymax = math.Inf(-1), math.Inf(-1)
+	for _, h := range b {
+		xmin, xmax = math.Min(xmin, h.x0), math.Max(xmax, h.x1)
+		ymin, ymax = math.Min(ymin, h.y), math.Max(ymax, h.y)
+	}
+	return xmin, xmax, ymin, ymax
+}
 
 func (b hbars) Plot(c draw.Canvas, p *plot.Plot) {
 	tx, ty := p.Transforms(&c)

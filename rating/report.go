@@ -102,6 +102,30 @@ type RatingReport struct {
 	Warnings []string
 	// Figures are the report's pictures (none until drawn).
 	Figures []Figure
+	// Calibration says how the section's n was calibrated on gaugings
+	// before rating; nil when it was not.
+	Calibration *NCalibration
+}
+
+// NCalibration states a calibration of a section's n on gaugings: the
+// factor every n (or the channel's) was multiplied by, with its standard
+// error and the scatter of the gaugings about the calibrated rating.
+type NCalibration struct {
+	// Source names the gaugings (their file).
+	Source string
+	// Gaugings is the number of gaugings the factor was fitted on.
+	Gaugings int
+	// ChannelOnly reports that only the channel's n was scaled.
+	ChannelOnly bool
+	// Factor is the factor on n (dimensionless).
+	Factor float64
+	// FactorStandardErrorPercent is the factor's standard error in percent
+	// of it; NaN from one gauging.
+	FactorStandardErrorPercent float64
+	// StandardErrorPercent is the standard error of estimate of the
+	// calibrated rating against the gaugings, in percent (their scatter
+	// about it); NaN from one gauging.
+	StandardErrorPercent float64
 }
 
 // RateOptions configure Rate. The zero value of Lookup leaves the lookup

@@ -57,7 +57,7 @@ func TestRateCalibrateChecks(t *testing.T) {
 		{"feet against metres", "time,stage (ft),discharge (cfs)\n2026-01-10,1,2.52686\n", 1,
 			[]string{"gaug.csv:1:2: stage (ft)", "si units set by the headers of"}, 0},
 		{"one gauging", head + "2026-01-10,1,2.52686\n", 0,
-			[]string{"n calibrated on 1 gauging in", "multiplied by 1.2500", "standard error against them not estimated from one gauging"}, 2.52686},
+			[]string{"n calibrated on 1 gauging in", "multiplied by 1.2500", "standard errors not estimated from one gauging"}, 2.52686},
 		{"a dry gauging is not counted", head + "2026-01-09,0,0.1\n2026-01-10,1,2.52686\n", 0,
 			[]string{"scaled subsections are dry", "n calibrated on 1 gauging in"}, 2.52686},
 		{"n far too high", head + "2026-01-10,1,0.0431500\n", 1,
@@ -99,5 +99,62 @@ func TestRateCalibrateChecks(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// rate --calibrate states the factor with its own standard error and,
+// apart from it, the gaugings' scatter about the calibrated rating, in
+// the warning and in the JSON's calibration object (null without
+// --calibrate). On the 5 m rectangle of calibRect (hand values above:
+// 3.15858 m3/s at 1 m, and at 2 m A = 10 m2, P = 9 m, R^(2/3) = 1.072749,
+// Q = 8.48096 m3/s), gaugings 1.2 and 1.3 times below the rating
+// (2.63215 at 1 m, 6.52382 at 2 m), equal weights: ln f = (ln 1.2 +
+// ln 1.3)/2, f = √1.56 = 1.249000; residuals ±(ln 1.3 − ln 1.2)/2 =
+// ±0.0400214; factor's standard error √(2·0.0400214²/(1·2)) = 0.0400214,
+// 100·sinh = 4.00320 %; scatter √(2·0.0400214²/1) = 0.0565991, 100·sinh =
+// 5.66290 % (hand calculation).
+func TestRateCalibrateStandardErrors(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	survey, g := filepath.Join(dir, "rect.csv"), filepath.Join(dir, "gaug.csv")
+	if err := os.WriteFile(survey, []byte(calibRect), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(g, []byte("time,stage (m),discharge (m3/s)\n2026-01-10,1,2.63215\n2026-02-10,2,6.52382\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const handTol = 2e-5 // relative: the gaugings' six digits
+	type calibration struct {
+		Factor      float64 `json:"factor"`
+		FactorSE    float64 `json:"factor_standard_error_percent"`
+		SE          float64 `json:"standard_error_percent"`
+		Gaugings    int     `json:"gaugings"`
+		ChannelOnly bool    `json:"channel_only"`
+		Source      string  `json:"source"`
+	}
+	out, errs, code := runCLI(t, "rate", survey, "--slope", "0.001", "--stages", "1", "--calibrate", g, "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Warnings    []string
+		Calibration *calibration
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	c := doc.Calibration
+	if c == nil || math.Abs(c.Factor/1.249000-1) > handTol || math.Abs(c.FactorSE/4.00320-1) > handTol || math.Abs(c.SE/5.66290-1) > handTol ||
+		c.Gaugings != 2 || c.ChannelOnly || c.Source != g {
+		t.Errorf("calibration %+v", c)
+	}
+	want := "every n multiplied by 1.2490 (standard error of the factor 4.0 %); the gaugings scatter 5.7 % about the calibrated rating (standard error of estimate)"
+	if !strings.Contains(strings.Join(doc.Warnings, "\n"), want) {
+		t.Errorf("warnings %q lack %q", doc.Warnings, want)
+	}
+	out, errs, code = runCLI(t, "rate", survey, "--slope", "0.001", "--stages", "1", "--format", "json")
+	var plain map[string]json.RawMessage
+	if err := json.Unmarshal([]byte(out), &plain); code != 0 || err != nil || string(plain["calibration"]) != "null" {
+		t.Errorf("without --calibrate: exit %d (%s), calibration %s", code, errs, plain["calibration"])
 	}
 }

@@ -90,7 +90,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.IntVar(&f.chains, "chains", gauged.DefaultChains, "number of chains, each with its own seeded source (Bayesian; 2 or more for R̂)")
 	fs.Uint64Var(&f.seed, "seed", fitDefaultSeed, "seed of the chains: the same seed gives the same output (Bayesian)")
 	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
-	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file)")
+	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file; a time that is no gauging's is an error)")
 	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
 	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default UTC)")
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
@@ -161,6 +161,9 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		return nil, err
 	}
 	if err := f.periodHolds(path, gs.Gaugings, opt); err != nil {
+		return nil, err
+	}
+	if err := excludesMatch(path, gs.Gaugings, opt); err != nil {
 		return nil, err
 	}
 	var table *gauged.TableRating
@@ -514,6 +517,46 @@ func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Opti
 		span = fmt.Sprintf("they run from %s to %s", gauged.TimeText(first, opt.UTCOffset), gauged.TimeText(last, opt.UTCOffset))
 	}
 	return fmt.Errorf("fit: --period %s: none of the %d gaugings of %s falls in it (%s): %w", strings.TrimSpace(f.period), len(gs), path, span, gauged.ErrFewGaugings)
+}
+
+// excludesMatch checks that every time of --exclude is the time of one
+// of the gaugings read from path (the same instant, whatever offset each
+// is written with): a time matching none, most likely mistyped, is an
+// error naming it as read and the nearest gauging's time, one line per
+// such time.
+func excludesMatch(path string, gs []gauged.Gauging, opt gauged.Options) error {
+	var errs []error
+	for _, t := range opt.Controls.Selection.Exclude {
+		var nearest time.Time
+		found := false
+		for _, g := range gs {
+			if g.Time.Equal(t) {
+				found = true
+				break
+			}
+			if !g.Time.IsZero() && (nearest.IsZero() || absDuration(g.Time.Sub(t)) < absDuration(nearest.Sub(t))) {
+				nearest = g.Time
+			}
+		}
+		if found {
+			continue
+		}
+		near := "none of them has a time"
+		if !nearest.IsZero() {
+			near = "the nearest is at " + gauged.TimeText(nearest, opt.UTCOffset)
+		}
+		errs = append(errs, fmt.Errorf("fit: --exclude %s: no gauging of %s is at that time (%s): check the time against the file",
+			gauged.TimeText(t, opt.UTCOffset), path, near))
+	}
+	return errors.Join(errs...)
+}
+
+// absDuration is the length of d, whatever its sign.
+func absDuration(d time.Duration) time.Duration {
+	if d < 0 {
+		return -d
+	}
+	return d
 }
 
 // belowZeroFlow words a gauge height of zero flow from --zero-flow that

@@ -189,8 +189,8 @@ func TestFitControlSection(t *testing.T) {
 
 // The gaugings' own uncertainty and exclude columns, and --exclude and
 // --period: every gauging stays in the report, those left out marked with
-// their reason and their departures; a listed time that matches no
-// gauging is a warning.
+// their reason and their departures (a listed time that matches no
+// gauging is an error: TestFitExcludeMatchesNoGauging).
 func TestFitExcludeAndUncertainty(t *testing.T) {
 	t.Parallel()
 	in := filepath.Join(t.TempDir(), "g.csv")
@@ -209,7 +209,7 @@ func TestFitExcludeAndUncertainty(t *testing.T) {
 	if err := os.WriteFile(in, []byte(csv), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	doc := fitJSON(t, in, "--method", "lsq", "--exclude", "2024-07-01,2025-01-01", "--period", "..2024-07-01")
+	doc := fitJSON(t, in, "--method", "lsq", "--exclude", "2024-07-01", "--period", "..2024-07-01")
 	gs := doc["gaugings"].([]any)
 	want := map[int]string{3: "weed on the control", 6: "excluded by time"}
 	for i, g := range gs {
@@ -225,9 +225,6 @@ func TestFitExcludeAndUncertainty(t *testing.T) {
 	// within about 2 % of the law (its other gaugings are within 1 %).
 	if d := gs[3].(map[string]any)["departure_percent"].(float64); math.Abs(d-48.5) > 3 {
 		t.Errorf("excluded gauging departs %g %%, want about 48.5", d)
-	}
-	if w := strings.Join(toStrings(doc["warnings"]), "\n"); !strings.Contains(w, "no gauging at 2025-01-01") {
-		t.Errorf("warnings %q", w)
 	}
 	if s := doc["selection"].(map[string]any); s["fitted"] != 5.0 || s["excluded"] != 2.0 {
 		t.Errorf("selection %v", s)
@@ -579,5 +576,48 @@ func TestDemoFitStatesDatum(t *testing.T) {
 		if got := datumLine(string(b)); got != want {
 			t.Errorf("%s: %q, want %q", name, got, want)
 		}
+	}
+}
+
+// A breakpoint above every gauging leaves a control with none: on weak
+// priors (no section) both methods refuse it with exit status 1, as for
+// other gaugings that cannot carry the fit, the Bayesian fit naming the
+// control and its priors. The demo gaugings reach 2.96 m (demodata).
+func TestFitBreakAboveGaugingsRefused(t *testing.T) {
+	t.Parallel()
+	for _, method := range []string{"bayes", "lsq"} {
+		out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", method, "--breaks", "3.5")
+		if code != 1 || out != "" || !strings.Contains(errs, "leave") {
+			t.Errorf("%s: exit %d, stdout %q, stderr %q", method, code, out, errs)
+		}
+		if method == "bayes" && !strings.Contains(errs, "control 2 (from 3.5 m up) with 0 of the gaugings used") {
+			t.Errorf("bayes: stderr %q does not name the empty control", errs)
+		}
+	}
+}
+
+// A time of --exclude that is no gauging's (a slip of the keyboard) is an
+// error, exit status 1 as for a --period holding none, one line per such
+// time naming it (at --utc-offset) and the nearest gauging; a time that
+// matches, whatever offset it is written with, is left out as before.
+// Demo gaugings at 2019-05-19T08:45 and 2019-07-15T12:45 (demodata).
+func TestFitExcludeMatchesNoGauging(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--exclude", "2019-05-19T08:45,2019-07-15T12:54,2019-05-19T09:45")
+	lines := strings.Split(strings.TrimSpace(errs), "\n")
+	if code != 1 || out != "" || len(lines) != 2 ||
+		!strings.Contains(lines[0], "--exclude 2019-07-15T12:54:00Z: no gauging of "+fitDemoGaugings+" is at that time (the nearest is at 2019-07-15T12:45:00Z)") ||
+		!strings.Contains(lines[1], "--exclude 2019-05-19T09:45:00Z") {
+		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+	// At +10:00 the file's times, written without an offset, are read at
+	// +10:00 too.
+	_, errs, code = runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--utc-offset", "+10:00", "--exclude", "2019-05-19T09:45")
+	if code != 1 || !strings.Contains(errs, "--exclude 2019-05-19T09:45:00+10:00: no gauging") || !strings.Contains(errs, "nearest is at 2019-05-19T08:45:00+10:00") {
+		t.Errorf("at +10:00: exit %d, stderr %q", code, errs)
+	}
+	doc := fitJSON(t, fitDemoGaugings, "--method", "lsq", "--exclude", "2019-05-19T18:45+10:00") // 08:45 UTC
+	if s := doc["selection"].(map[string]any); s["excluded"] != 1.0 {
+		t.Errorf("a matching time written at +10:00: selection %v", s)
 	}
 }

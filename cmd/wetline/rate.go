@@ -165,7 +165,8 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 		return rating.RatingReport{}, err
 	}
 	opt := rating.Options{Slope: f.slope, Units: p.Units, Geometry: f.geometry()}
-	if err := f.calib.apply(fs, p, opt); err != nil {
+	cal, err := f.calib.apply(fs, p, opt)
+	if err != nil {
 		return rating.RatingReport{}, err
 	}
 	stages, stageWarnings, err := results.TableStages(f.stageSpec(fs), p.Geometry, p.Source())
@@ -196,6 +197,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	}
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
 	rep.Ground = p.Ground
+	rep.Calibration = cal
 	rep.Warnings = append(append(append([]string(nil), p.Warnings...), stageWarnings...), rep.Warnings...)
 	return rep, nil
 }

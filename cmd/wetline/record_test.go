@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -515,5 +516,59 @@ func TestRecordMissingValueCode(t *testing.T) {
 	}
 	if !strings.Contains(out, "1 reading(s) lie below the lowest row of their rating table") || !strings.Contains(out, "left out as missing readings") || strings.Contains(out, "below_zero_flow") {
 		t.Errorf("report:\n%s", out)
+	}
+}
+
+// --daily with --unit writes both tables in text, JSON and a workbook and
+// is refused in CSV (one table a file), and the help of --daily says just
+// that.
+func TestRecordBothTables(t *testing.T) {
+	t.Parallel()
+	help, _, code := runCLI(t, "record", "--help")
+	var daily string
+	for _, l := range strings.Split(help, "\n") {
+		if strings.HasPrefix(strings.TrimSpace(l), "--daily ") {
+			daily = l
+		}
+	}
+	if code != 0 || !strings.Contains(daily, "with --unit too, both tables, in text, JSON or a workbook (a CSV file holds one") {
+		t.Errorf("help of --daily %q", daily)
+	}
+	dir := t.TempDir()
+	for _, format := range []string{"text", "json", "xlsx", "csv"} {
+		out := filepath.Join(dir, "record."+format)
+		_, errs, code := runCLI(t, recordArgs("--daily", "--unit", "-o", out)...)
+		if format == "csv" {
+			if code != 2 || !strings.Contains(errs, "CSV file holds one table") {
+				t.Errorf("csv: exit %d, stderr %q", code, errs)
+			}
+			continue
+		}
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", format, code, errs)
+		}
+		switch format {
+		case "text":
+			b, _ := os.ReadFile(out)
+			if !strings.Contains(string(b), "\nDaily values") || !strings.Contains(string(b), "\nUnit values") {
+				t.Errorf("text lacks a table")
+			}
+		case "json":
+			b, _ := os.ReadFile(out)
+			var doc struct{ Unit, Daily []any }
+			if err := json.Unmarshal(b, &doc); err != nil || len(doc.Unit) == 0 || len(doc.Daily) == 0 {
+				t.Errorf("json: %d unit and %d daily rows (%v)", len(doc.Unit), len(doc.Daily), err)
+			}
+		case "xlsx":
+			f, err := excelize.OpenFile(out)
+			if err != nil {
+				t.Fatal(err)
+			}
+			sheets := f.GetSheetList()
+			f.Close()
+			if !slices.Contains(sheets, results.SheetDaily) || !slices.Contains(sheets, results.SheetUnit) {
+				t.Errorf("workbook sheets %q", sheets)
+			}
+		}
 	}
 }

@@ -220,30 +220,31 @@ func (c *calibrateFlags) register(fs *flagSet) {
 
 // apply calibrates n on the gaugings, when asked, and replaces the
 // prepared geometry by the scaled one; the factor and the datum are stated
-// among the warnings so that every report carries them.
-func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Options) error {
+// among the warnings so that every report carries them. It returns the
+// calibration for the report (nil when not asked).
+func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Options) (*rating.NCalibration, error) {
 	if err := fs.needs("--calibrate GAUGINGS", c.gaugings != "", "gaugings-sheet", "channel-only"); err != nil {
-		return err
+		return nil, err
 	}
 	if c.gaugings == "" {
-		return nil
+		return nil, nil
 	}
 	gs, err := survey.ReadGaugings(c.gaugings, c.sheet)
 	if err != nil {
-		return err
+		return nil, err
 	}
 	if err := sectionUnits(fs, p).take(gs.Units, c.gaugings); err != nil {
-		return err
+		return nil, err
 	}
 	curve := rating.HydraulicCurve{Geometry: p.Geometry, Datum: c.datum, Options: opt}
-	g, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings, gauged.NRange{Min: survey.MinN, Max: survey.MaxN})
+	g, cal, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings, gauged.NRange{Min: survey.MinN, Max: survey.MaxN})
 	if err != nil {
-		return fmt.Errorf("%s: %w", c.gaugings, err)
+		return nil, fmt.Errorf("%s: %w", c.gaugings, err)
 	}
 	p.Inputs = append(p.Inputs, c.gaugings)
 	p.Warnings = append(append(p.Warnings, gs.Warnings...), notes...)
 	p.Geometry = g
-	return nil
+	return cal, nil
 }
 
 // sectionUnits is the unit system of a prepared section as other inputs

@@ -1,10 +1,12 @@
 package gauged_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
 	"runtime"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -190,5 +192,56 @@ func TestBayesSameOnAnyCoreCount(t *testing.T) {
 	b1, b2, b3, b4 := many.PosteriorBand(4)
 	if a1 != b1 || a2 != b2 || a3 != b3 || a4 != b4 {
 		t.Errorf("bands differ: %v %v %v %v and %v %v %v %v", a1, a2, a3, a4, b1, b2, b3, b4)
+	}
+}
+
+// Given breakpoints must leave every control on weak priors
+// MinPerSegment of the gaugings used, as least squares asks of every
+// control: a breakpoint above or below the gauged stages, or one leaving a
+// control 1 or 2 gaugings, is refused (ErrControlOptions). A control whose
+// prior comes from the survey may hold none: a floodplain adding above the
+// gaugings at a given bank stage, its prior from the section, is fitted,
+// with the warning that it rests on its prior. Gaugings from the built
+// compound section's own Manning rating (invented), 0.3 to 1.7 m, banks at
+// 2 m.
+func TestBayesGivenBreaksHoldGaugings(t *testing.T) {
+	c := built(t, "compound:bottom=10,side=2,depth=2,floodplain=30,outer=2,floodn=0.06,height=4", 0.035, 0.001)
+	gs := gaugeTruth(t, c, linspace(0.3, 1.7, 15), rand.New(rand.NewPCG(2, 2)))
+	two := []gauged.ControlSpec{{Kind: gauged.ChannelControl}, {Kind: gauged.ChannelControl, Joint: gauged.Add}}
+	for _, tc := range []struct {
+		name   string
+		breaks []float64
+	}{
+		{"above the gaugings", []float64{2}},
+		{"below the gaugings", []float64{0.2}},
+		{"two gaugings above", []float64{1.65}},
+		{"one gauging below", []float64{0.35}},
+	} {
+		_, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: two, Breaks: tc.breaks},
+			Chains: 2, Draws: 200, Seed: 1})
+		if !errors.Is(err, gauged.ErrControlOptions) || !strings.Contains(err.Error(), "weak priors") {
+			t.Errorf("%s, weak priors: %v, want ErrControlOptions naming the weak priors", tc.name, err)
+		}
+		// Least squares refuses the same breakpoints.
+		if _, err := gauged.FitControls(gs, gauged.ControlOptions{Controls: two, Breaks: tc.breaks}); !errors.Is(err, gauged.ErrControlOptions) {
+			t.Errorf("%s, least squares: %v", tc.name, err)
+		}
+	}
+	// Within the gauged stages, each control holding 3 or more: fitted.
+	if _, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: two, Breaks: []float64{1}},
+		Chains: 2, Draws: 200, Seed: 1}); err != nil {
+		t.Errorf("breakpoint within the gaugings: %v", err)
+	}
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: two, Breaks: []float64{2}},
+		Hydraulic: &c, Chains: 2, Draws: 500, Seed: 1})
+	if err != nil {
+		t.Fatalf("floodplain above the gaugings with its prior from the section: %v", err)
+	}
+	warned := false
+	for _, w := range f.Warnings {
+		warned = warned || strings.Contains(w, "control 2 holds 0 gauging(s)")
+	}
+	if !warned || f.Controls[1].From != 2 {
+		t.Errorf("floodplain from %g, warnings %q", f.Controls[1].From, f.Warnings)
 	}
 }

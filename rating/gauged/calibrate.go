@@ -41,13 +41,35 @@ type NPoint struct {
 // Σ wᵢ·(ln Qmᵢ − ln Qᵢ(f))² with the quality weights: in closed form
 // ln f = Σwᵢ ln(Qrᵢ/Qmᵢ)/Σwᵢ when every n is scaled, by gonum's
 // Nelder–Mead search on ln f otherwise.
+//
+// Two standard errors follow, both from the residuals rᵢ = ln Qmᵢ −
+// ln Qᵢ(f) of the n gaugings used, with n − 1 degrees of freedom. The
+// scatter of the gaugings about the calibrated rating (the standard error
+// of estimate, weights normalised to mean one, as in Fit) is
+//
+//	s = √(n·Σwᵢrᵢ² / ((n − 1)·Σwᵢ)).
+//
+// The factor's own standard error is that of a one-parameter weighted
+// least-squares estimate of ln f: with gᵢ = ∂ln Qᵢ/∂ln f = −(Qsᵢ/f)/Qᵢ(f),
+// the share of the discharge the scaled subsections carry (−1 when every
+// n is scaled),
+//
+//	SE(ln f) = √(Σwᵢrᵢ² / ((n − 1)·Σwᵢgᵢ²)),
+//
+// which for every n scaled is the standard error of the weighted mean of
+// ln(Qr/Qm), s/√n with equal weights. Both are given in percent as
+// 100·sinh of the value in ln units, as Fit gives its standard error.
 type Calibration struct {
 	// ChannelOnly reports that only the channel's n was scaled.
 	ChannelOnly bool
 	// Factor is the best single factor on n.
 	Factor float64
+	// FactorStandardErrorPercent is the standard error of the factor, in
+	// percent of it (SE(ln f) above; NaN from one gauging).
+	FactorStandardErrorPercent float64
 	// StandardErrorPercent is the weighted standard error of the calibrated
-	// rating against the gaugings, as in Fit (n − 1 degrees of freedom).
+	// rating against the gaugings, as in Fit (n − 1 degrees of freedom):
+	// their scatter about it (NaN from one gauging).
 	StandardErrorPercent float64
 	// Points holds each gauging's back-calculated n: one per gauging, in
 	// input order.
@@ -91,7 +113,7 @@ func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibra
 // calibrate is Calibrate with the best factor taken over the gaugings sel
 // selects.
 func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Selection) (Calibration, error) {
-	cal := Calibration{ChannelOnly: channelOnly, Factor: math.NaN(), StandardErrorPercent: math.NaN()}
+	cal := Calibration{ChannelOnly: channelOnly, Factor: math.NaN(), FactorStandardErrorPercent: math.NaN(), StandardErrorPercent: math.NaN()}
 	if channelOnly && !hasOverbanks(c) {
 		cal.Warnings = append(cal.Warnings, "the section has no bank stations: all of it is channel, so every n is scaled")
 	}
@@ -142,11 +164,26 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 	}
 	cal.Factor = math.Exp(lf)
 	if n := len(parts); n > 1 {
+		ssr := calibrationSSR(parts, lf)
 		// Weights normalised to mean one, as in Fit.
-		s := math.Sqrt(calibrationSSR(parts, lf) * float64(n) / sw / float64(n-1))
+		s := math.Sqrt(ssr * float64(n) / sw / float64(n-1))
 		cal.StandardErrorPercent = 100 * math.Sinh(s)
+		cal.FactorStandardErrorPercent = 100 * math.Sinh(math.Sqrt(ssr/float64(n-1)/calibrationLeverage(parts, lf)))
 	}
 	return cal, nil
+}
+
+// calibrationLeverage is Σwᵢgᵢ² at ln f = lf, with gᵢ = ∂ln Qᵢ/∂ln f the
+// share of gauging i's computed discharge that the scaled subsections
+// carry (its sign dropped: it is squared).
+func calibrationLeverage(parts []calibrationPart, lf float64) float64 {
+	f := math.Exp(lf)
+	var s float64
+	for _, p := range parts {
+		g := (p.qs / f) / (p.qs/f + p.qo)
+		s += p.w * g * g
+	}
+	return s
 }
 
 // hasOverbanks reports a subsection of c outside the channel.

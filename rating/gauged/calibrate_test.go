@@ -160,3 +160,101 @@ func TestAnalyzeGaugingsOutsideSection(t *testing.T) {
 		t.Errorf("datum 9.5: %v", err)
 	}
 }
+
+// The factor's standard error is that of the weighted mean of ln(Qr/Qm)
+// with the calibration's weights, distinct from the gaugings' scatter
+// about the calibrated rating. Gaugings on a 5 m rectangle (n 0.04, S
+// 0.001, invented), each measured at Qr·e^(−xᵢ), so ln(Qr/Qm) = xᵢ.
+// Hand calculations:
+//
+//	equal weights (all good), x = 0.10, 0.14, 0.06, 0.10: mean 0.10,
+//	  factor e^0.10 = 1.105171; residuals 0, −0.04, 0.04, 0, Σr² = 0.0032;
+//	  SE(ln f) = √(0.0032/(3·4)) = 0.0163299, 100·sinh = 1.63307 %;
+//	  scatter √(0.0032/3) = 0.0326599, 100·sinh = 3.26657 %.
+//	two good (5 %) at x = 0.10, 0.12, one poor (12 %) at 0.30: weights in
+//	  the ratio (12/5)² = 5.76 : 5.76 : 1, Σw = 12.52, mean 1.5672/12.52 =
+//	  0.1251757, factor 1.133348; Σw(x − mean)² = 0.0343686;
+//	  SE(ln f) = √(0.0343686/(2·12.52)) = 0.0370479, 100·sinh = 3.70564 %;
+//	  scatter √(3·0.0343686/(2·12.52)) = 0.0641689, 100·sinh = 6.42129 %.
+func TestCalibrateFactorStandardError(t *testing.T) {
+	const handTol = 1e-5 // relative: the hand values' six digits
+	c := built(t, "rectangle:width=5,height=3", 0.04, 0.001)
+	for _, tc := range []struct {
+		name                      string
+		x                         []float64
+		q                         []rating.Quality
+		factor, factorSE, scatter float64
+	}{
+		{"equal weights", []float64{0.10, 0.14, 0.06, 0.10}, []rating.Quality{rating.Good, rating.Good, rating.Good, rating.Good}, 1.105171, 1.63307, 3.26657},
+		{"quality weights", []float64{0.10, 0.12, 0.30}, []rating.Quality{rating.Good, rating.Good, rating.Poor}, 1.133348, 3.70564, 6.42129},
+	} {
+		var gs []gauged.Gauging
+		for i, x := range tc.x {
+			h := 0.4 + 0.5*float64(i)
+			qr, err := c.Discharge(h)
+			if err != nil {
+				t.Fatal(err)
+			}
+			gs = append(gs, gauged.Gauging{Stage: h, Discharge: qr * math.Exp(-x), Quality: tc.q[i]})
+		}
+		for _, channelOnly := range []bool{false, true} { // no overbanks: the channel is all of it
+			cal, err := gauged.Calibrate(gs, c, channelOnly)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if relErr(cal.Factor, tc.factor) > handTol || relErr(cal.FactorStandardErrorPercent, tc.factorSE) > handTol ||
+				relErr(cal.StandardErrorPercent, tc.scatter) > handTol {
+				t.Errorf("%s (channel only %v): factor %.7g ± %.6g %%, scatter %.6g %%; want %g ± %g %%, %g %%", tc.name, channelOnly,
+					cal.Factor, cal.FactorStandardErrorPercent, cal.StandardErrorPercent, tc.factor, tc.factorSE, tc.scatter)
+			}
+		}
+	}
+	one, err := gauged.Calibrate([]gauged.Gauging{{Stage: 1, Discharge: 5, Quality: rating.Good}}, c, false)
+	if err != nil || !math.IsNaN(one.FactorStandardErrorPercent) || !math.IsNaN(one.StandardErrorPercent) {
+		t.Errorf("one gauging: %+v, %v; want no standard errors", one, err)
+	}
+}
+
+// Scaling the channel's n alone, the factor's standard error takes each
+// gauging's sensitivity ∂ln Q/∂ln f, the channel's share of its discharge:
+// checked against SE(ln f) = √(Σwr²/((n − 1)·Σwg²)) evaluated in the test,
+// g by central differences of the calibrated rating itself (an
+// independent computation). Gaugings from the compound section with n
+// 0.030 in the channel and 0.060 on the overbanks (invented), the survey
+// at 0.040 in the channel, perturbed by a seeded ±3 % so that they
+// scatter.
+func TestCalibrateChannelOnlyFactorStandardError(t *testing.T) {
+	const diffTol = 1e-6 // relative: central differences of step 1e-5 in ln f
+	gs := sample(t, compound(t, 0.030, 0.060), []float64{1.0, 1.6, 2.2, 2.7, 3.1, 3.4})
+	for i := range gs {
+		gs[i].Discharge *= 1 + 0.03*math.Sin(float64(5*i+1))
+	}
+	surv := compound(t, 0.040, 0.060)
+	c := rating.HydraulicCurve{Geometry: surv, Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	cal, err := gauged.Calibrate(gs, c, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lnQ := func(lf, h float64) float64 {
+		sc := rating.HydraulicCurve{Geometry: rating.ScaledN{Geometry: surv, Factor: math.Exp(lf), ChannelOnly: true}, Options: c.Options, Datum: c.Datum}
+		q, err := sc.Discharge(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return math.Log(q)
+	}
+	const step = 1e-5
+	lf := math.Log(cal.Factor)
+	var ssr, swg2 float64
+	for _, g := range gs {
+		w := 1 / (g.LogSigma() * g.LogSigma())
+		r := math.Log(g.Discharge) - lnQ(lf, g.Stage)
+		d := (lnQ(lf+step, g.Stage) - lnQ(lf-step, g.Stage)) / (2 * step)
+		ssr += w * r * r
+		swg2 += w * d * d
+	}
+	want := 100 * math.Sinh(math.Sqrt(ssr/float64(len(gs)-1)/swg2))
+	if relErr(cal.FactorStandardErrorPercent, want) > diffTol {
+		t.Errorf("channel only: factor standard error %.8g %%, want %.8g %%", cal.FactorStandardErrorPercent, want)
+	}
+}

@@ -18,17 +18,19 @@ type NRange struct{ Min, Max float64 }
 
 // CalibratedGeometry back-calculates n on gaugings (Calibrate) and returns
 // the section of c with every n, or only the channel's, multiplied by the
-// best factor, with the calibration's warnings and a sentence stating it
-// (the number of gaugings used, source, datum, factor and standard error,
-// "not estimated" from one gauging) for every report of the calibrated
+// best factor, the calibration as a rating report states it, and the
+// calibration's warnings with a sentence stating it (the number of
+// gaugings used, source, datum, the factor with its own standard error,
+// and the gaugings' scatter about the calibrated rating, both "not
+// estimated" from one gauging) for every report of the calibrated
 // section. source names where the gaugings came from.
 //
 // Errors: Calibrate's; ErrImplausibleN when a scaled n times the factor
 // leaves plausible (naming the factor and the n it gives).
-func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, source string, plausible NRange) (rating.ScaledN, []string, error) {
+func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, source string, plausible NRange) (rating.ScaledN, *rating.NCalibration, []string, error) {
 	cal, err := Calibrate(gs, c, channelOnly)
 	if err != nil {
-		return rating.ScaledN{}, nil, err
+		return rating.ScaledN{}, nil, nil, err
 	}
 	scaled := rating.ScaledN{Geometry: c.Geometry, Factor: cal.Factor, ChannelOnly: channelOnly}
 	lo, hi := math.Inf(1), math.Inf(-1)
@@ -38,7 +40,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 		}
 	}
 	if lo < plausible.Min || hi > plausible.Max {
-		return rating.ScaledN{}, nil, fmt.Errorf(
+		return rating.ScaledN{}, nil, nil, fmt.Errorf(
 			"%w: the best factor on n, %.4g from %d gauging(s), makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
 			ErrImplausibleN, cal.Factor, cal.Used, lo, hi, plausible.Min, plausible.Max)
 	}
@@ -47,9 +49,10 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 		which = "the channel's n"
 	}
 	u := c.Options.Units
-	se := "not estimated from one gauging"
+	ses := " (standard errors not estimated from one gauging)"
 	if !math.IsNaN(cal.StandardErrorPercent) {
-		se = fmt.Sprintf("%.1f %%", cal.StandardErrorPercent)
+		ses = fmt.Sprintf(" (standard error of the factor %.1f %%); the gaugings scatter %.1f %% about the calibrated rating (standard error of estimate)",
+			cal.FactorStandardErrorPercent, cal.StandardErrorPercent)
 	}
 	plural := "s"
 	if cal.Used == 1 {
@@ -57,7 +60,9 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	}
 	notes := append([]string(nil), cal.Warnings...)
 	notes = append(notes, fmt.Sprintf(
-		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s %s): %s multiplied by %.4f; standard error against them %s",
-		cal.Used, plural, source, rating.DatumTerm(c.Datum), u.Length(), which, cal.Factor, se))
-	return scaled, notes, nil
+		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s %s): %s multiplied by %.4f%s",
+		cal.Used, plural, source, rating.DatumTerm(c.Datum), u.Length(), which, cal.Factor, ses))
+	state := &rating.NCalibration{Source: source, Gaugings: cal.Used, ChannelOnly: channelOnly, Factor: cal.Factor,
+		FactorStandardErrorPercent: cal.FactorStandardErrorPercent, StandardErrorPercent: cal.StandardErrorPercent}
+	return scaled, state, notes, nil
 }

@@ -80,12 +80,32 @@ func calPoint(r *gauged.Report, i int) (float64, float64) {
 }
 
 // segmentTo is where control j of a fit stops: the next breakpoint, or
-// the highest gauging for the top control.
+// the highest gauging fitted for the top control; NaN for a top control
+// that starts at or above it (a control with its prior from the survey
+// may lie wholly above the gaugings), which has no gauged top.
 func segmentTo(f *gauged.ControlFit, j int) float64 {
 	if j+1 < len(f.Controls) {
 		return f.Controls[j+1].From
 	}
+	if !(f.HighStage > f.Controls[j].From) {
+		return math.NaN()
+	}
 	return f.HighStage
+}
+
+// segmentStages words the stages of control j in length unit L ("" for
+// none): "FROM to TO", or "from FROM up, above every gauging fitted" for a
+// top control with no gauged top, so a range never reads backwards.
+func segmentStages(f *gauged.ControlFit, j int, L string) string {
+	from, to := f.Controls[j].From, segmentTo(f, j)
+	unit := ""
+	if L != "" {
+		unit = " " + L
+	}
+	if math.IsNaN(to) {
+		return fmt.Sprintf("from %.3f%s up, above every gauging fitted", from, unit)
+	}
+	return fmt.Sprintf("%.3f to %.3f%s", from, to, unit)
 }
 
 // exponentBounds are the exponents control j may take without a warning.
@@ -325,7 +345,9 @@ type jsonFitReport struct {
 //	 "relation_tests":{...},"johnson":{...},"posterior":{...},
 //	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...}}
 //
-// Each segment (one per control) has from_stage, to_stage, coefficient,
+// Each segment (one per control) has from_stage, to_stage (the next
+// breakpoint, or the highest gauging fitted; null for a top control
+// starting above every gauging fitted), coefficient,
 // its own zero_flow_stage and exponent (with standard errors), control
 // (replace or add), kind (section, channel, unknown) and the exponent
 // range of its kind; each gauging stage, discharge, fitted,
@@ -582,8 +604,8 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(c.BSE) {
 			b = fmt.Sprintf("%.4f %s (held)", c.B, L)
 		}
-		p("  control %d (%s%s), %.3f to %.3f %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %.3g to %.3g expected)\n",
-			j+1, c.Kind, join, c.From, segmentTo(f, j), L, sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), lo, hi)
+		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %.3g to %.3g expected)\n",
+			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), lo, hi)
 		if j > 0 {
 			p("    breakpoint %.4f ± %s %s%s\n", c.From, sig(c.FromSE, 2), L, map[bool]string{true: " (given)", false: ""}[f.BreaksFixed])
 		}

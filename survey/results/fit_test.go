@@ -314,3 +314,57 @@ func TestFitComparisonCountsCompared(t *testing.T) {
 		t.Errorf("text:\n%s", b.String())
 	}
 }
+
+// A control's stages never read backwards: a floodplain given above every
+// gauging, its prior given (so the fit accepts it), starts at its
+// breakpoint 2.5 m with no gauged top; text and workbook say "from 2.500
+// m up" and JSON gives a null to_stage, where the top control used to
+// read "2.500 to 1.800". Gaugings of Q = 8·(h − 0.3)^2 (invented), 0.5 to
+// 1.8 m.
+func TestFitControlAboveGaugingsRange(t *testing.T) {
+	t0 := time.Date(2024, 1, 1, 9, 0, 0, 0, time.UTC)
+	var gs []gauged.Gauging
+	for i := range 14 {
+		h := 0.5 + 0.1*float64(i)
+		gs = append(gs, gauged.Gauging{Time: t0.AddDate(0, i, 0), Stage: h, Discharge: 8 * math.Pow(h-0.3, 2) * (1 + 0.02*math.Sin(float64(7*i))), Quality: rating.Good})
+	}
+	opt := gauged.Options{Site: "test", Units: rating.SI, Method: gauged.Bayesian,
+		Controls: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}, {Kind: gauged.ChannelControl, Joint: gauged.Add}}, Breaks: []float64{2.5}},
+		Bayes: gauged.BayesOptions{Chains: 2, Draws: 500, Seed: 1, Priors: []gauged.ControlPrior{{}, {
+			LogCoefficient: gauged.ParamPrior{Mean: math.Log(20), SD: 0.3}, Exponent: gauged.ParamPrior{Mean: 1.67, SD: 0.2}, Source: "given"}}},
+		Table: gauged.ControlTableOptions{To: 3, Step: 0.1}}
+	rep, err := gauged.Analyze(gs, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text, js, book bytes.Buffer
+	if err := results.WriteFitText(&text, rep); err != nil {
+		t.Fatal(err)
+	}
+	if s := text.String(); !strings.Contains(s, "control 2 (channel, adds to the one below), from 2.500 m up, above every gauging fitted:") ||
+		!strings.Contains(s, "control 1 (channel), ") || !strings.Contains(s, " to 2.500 m: ") || strings.Contains(s, "2.500 to 1.800") {
+		t.Errorf("text:\n%s", s)
+	}
+	if err := results.WriteFitJSON(&js, rep); err != nil {
+		t.Fatal(err)
+	}
+	var doc struct {
+		Segments []struct {
+			From *float64 `json:"from_stage"`
+			To   *float64 `json:"to_stage"`
+		} `json:"segments"`
+	}
+	if err := json.Unmarshal(js.Bytes(), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Segments) != 2 || doc.Segments[0].To == nil || *doc.Segments[0].To != 2.5 || doc.Segments[1].To != nil || *doc.Segments[1].From != 2.5 {
+		t.Errorf("JSON segments %s", js.String()[:min(js.Len(), 400)])
+	}
+	if err := results.WriteFitWorkbook(&book, rep); err != nil {
+		t.Fatal(err)
+	}
+	f := openWritten(t, &book)
+	if got := summaryItems(t, f)["control 2: stages"]; got != "from 2.500 up, above every gauging fitted|m" {
+		t.Errorf("workbook: control 2 stages %q", got)
+	}
+}

@@ -40,6 +40,7 @@ func fitLookupCells(r *gauged.Report) []LookupCell {
 // Sheets:
 //
 //   - summary: site, sources, program version, units, gauge datum, slope,
+//     the zone of every time in the workbook (the report's offset, else UTC),
 //     the method and the uncertainty convention, gauging counts, each
 //     control with its parameters and uncertainties, the standard error of
 //     estimate, the F test of one more control, the ISO tests with their
@@ -106,12 +107,10 @@ func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 }
 
 // fitClock is a gauging's time for a date cell of a fit workbook: the wall
-// clock at the report's UTC offset when one was chosen, else the time as
-// read (a cell shows its instant in UTC).
+// clock at the report's UTC offset, UTC when none was chosen, whatever
+// offset the time was read with (a date cell shows the clock it is given
+// and keeps no zone; the summary's "times in" names the zone).
 func fitClock(t time.Time, r *gauged.Report) time.Time {
-	if r.UTCOffset == 0 {
-		return t
-	}
 	return wallClock(t, zoneOf(r.UTCOffset))
 }
 
@@ -149,9 +148,7 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	}
 	add("uncertainty convention", gauged.UncertaintyConvention(), "")
 	add("gaugings", len(r.Gaugings), "")
-	if r.UTCOffset != 0 {
-		add("times in", zoneName(zoneOf(r.UTCOffset)), "")
-	}
+	add("times in", zoneName(zoneOf(r.UTCOffset)), "")
 	if f := r.Fit; f != nil {
 		fitSummaryItems(add, num, r, f)
 	} else {
@@ -200,7 +197,7 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		p := fmt.Sprintf("control %d: ", j+1)
 		lo, hi := exponentBounds(f, j)
 		add(p+"kind and joint", fmt.Sprintf("%s, %s (exponents %.3g to %.3g expected)", c.Kind, c.Joint, lo, hi), "")
-		add(p+"stages", fmt.Sprintf("%.3f to %.3f", c.From, segmentTo(f, j)), L)
+		add(p+"stages", segmentStages(f, j, ""), L)
 		add(p+"coefficient A", num("0.00000", c.A), "")
 		add(p+"uncertainty of A", num("0.00000", c.ASE), "")
 		add(p+"offset B", num("0.0000", c.B), L)

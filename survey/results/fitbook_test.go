@@ -190,3 +190,65 @@ func TestWriteSlopeAreaWorkbookMinimal(t *testing.T) {
 		t.Errorf("failed check: fill %q, want the marked fill", fill)
 	}
 }
+
+// The gaugings sheet of a fit workbook gives every time as the wall clock
+// at the report's offset, UTC without one, whatever offset each was read
+// with, and the summary names that zone. Gaugings of Q = 8·(h − 0.3)^2
+// (invented) read at −05:00 and −04:00 (a change of clocks between them):
+// 2022-04-02 22:30−05:00 is 2022-04-03 03:30 UTC and 2022-06-05
+// 18:30−04:00 is 22:30 UTC (hand conversion); at −05:00 they are 22:30
+// and 17:30.
+func TestFitWorkbookTimesInOneZone(t *testing.T) {
+	est, edt := time.FixedZone("", -5*3600), time.FixedZone("", -4*3600)
+	read := []time.Time{
+		time.Date(2022, 4, 2, 22, 30, 0, 0, est), time.Date(2022, 6, 5, 18, 30, 0, 0, edt),
+		time.Date(2022, 7, 1, 9, 0, 0, 0, edt), time.Date(2022, 11, 20, 9, 0, 0, 0, est),
+	}
+	var gs []gauged.Gauging
+	for i, tm := range read {
+		h := 0.5 + 0.3*float64(i)
+		gs = append(gs, gauged.Gauging{Time: tm, Stage: h, Discharge: 8 * math.Pow(h-0.3, 2), Quality: rating.Good})
+	}
+	for _, tc := range []struct {
+		offset time.Duration
+		zone   string
+		want   []string
+	}{
+		{0, "UTC", []string{"2022-04-03 03:30", "2022-06-05 22:30", "2022-07-01 13:00", "2022-11-20 14:00"}},
+		{-5 * time.Hour, "UTC-05:00", []string{"2022-04-02 22:30", "2022-06-05 17:30", "2022-07-01 08:00", "2022-11-20 09:00"}},
+	} {
+		rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI, UTCOffset: tc.offset, Method: gauged.LeastSquares})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var buf bytes.Buffer
+		if err := results.WriteFitWorkbook(&buf, rep); err != nil {
+			t.Fatal(err)
+		}
+		f := openWritten(t, &buf)
+		rows, err := f.GetRows(results.SheetGaugings)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(rows) != len(gs)+1 || rows[0][0] != "time" {
+			t.Fatalf("offset %v: rows %q", tc.offset, rows)
+		}
+		for i, w := range tc.want {
+			serial, err := strconv.ParseFloat(rows[i+1][0], 64)
+			if err != nil {
+				t.Fatalf("offset %v: time cell %q: %v", tc.offset, rows[i+1][0], err)
+			}
+			got, err := excelize.ExcelDateToTime(serial, false)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if s := got.Round(time.Second).Format("2006-01-02 15:04"); s != w {
+				t.Errorf("offset %v: gauging %d shows %s, want %s", tc.offset, i+1, s, w)
+			}
+		}
+		items := summaryItems(t, f)
+		if items["times in"] != tc.zone+"|" {
+			t.Errorf("offset %v: summary says times in %q, want %q", tc.offset, items["times in"], tc.zone)
+		}
+	}
+}

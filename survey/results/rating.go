@@ -136,8 +136,32 @@ type jsonRow struct {
 	Flags           []string  `json:"flags"`
 }
 
+// jsonCalibration is a rating report's calibration of n in JSON.
+type jsonCalibration struct {
+	Factor                     Float  `json:"factor"`
+	FactorStandardErrorPercent Float  `json:"factor_standard_error_percent"`
+	StandardErrorPercent       Float  `json:"standard_error_percent"`
+	Gaugings                   int    `json:"gaugings"`
+	ChannelOnly                bool   `json:"channel_only"`
+	Source                     string `json:"source"`
+}
+
+// calibrationJSON lays out a calibration of n (nil, null in JSON, for none).
+func calibrationJSON(c *rating.NCalibration) *jsonCalibration {
+	if c == nil {
+		return nil
+	}
+	return &jsonCalibration{Factor: Float(c.Factor), FactorStandardErrorPercent: Float(c.FactorStandardErrorPercent),
+		StandardErrorPercent: Float(c.StandardErrorPercent), Gaugings: c.Gaugings, ChannelOnly: c.ChannelOnly, Source: c.Source}
+}
+
 // WriteRatingJSON writes a rating report as one JSON object:
-// {"section","units","slope","rows":[...],"warnings":[...],"caution"}.
+// {"section","units","slope","rows":[...],"gauge_datum","site",
+// "warnings":[...],"caution","calibration"}. calibration is null unless
+// n was calibrated on gaugings; then it holds the factor, its standard
+// error in percent (factor_standard_error_percent), the gaugings' scatter
+// about the calibrated rating (standard_error_percent, the standard error
+// of estimate), the number of gaugings used, channel_only and the source.
 // Undefined values are null.
 func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 	t := rep.Table
@@ -150,6 +174,7 @@ func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 		{key: "site", value: siteJSON(rep.Provenance.Site)},
 		{key: "warnings", value: nonNil(rep.Warnings)},
 		{key: "caution", value: rating.Caution},
+		{key: "calibration", value: calibrationJSON(rep.Calibration)},
 	})
 }
 

@@ -42,7 +42,9 @@ func CheckRatingWorkbook(stages, subs int) error {
 // WriteRatingWorkbook writes a results workbook to w. Sheets:
 //
 //   - summary: section, source, program version, units, slope, banks,
-//     Manning's n by subsection, stage range, bankfull stage and
+//     Manning's n by subsection, the calibration of n on gaugings when
+//     made (the factor, its standard error and the standard error of
+//     estimate against the gaugings), stage range, bankfull stage and
 //     discharge (BankfullOf), warnings and the caution;
 //   - rating: the full table, one row per stage, the columns of
 //     WriteRatingCSV in words with units in brackets, flags last; stage
@@ -394,6 +396,22 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 	}
 	for i, sub := range t.Subsections {
 		items = append(items, SummaryItem{fmt.Sprintf("n, subsection %d (%s, stations %s to %s)", i+1, sub.Region, FormatLength(sub.From), FormatLength(sub.To)), sub.N, ""})
+	}
+	if c := rep.Calibration; c != nil {
+		which := "every n"
+		if c.ChannelOnly {
+			which = "the channel's n"
+		}
+		var err error
+		num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
+		items = append(items,
+			SummaryItem{"n calibrated on", fmt.Sprintf("%d gauging(s) in %s: %s multiplied by the factor below", c.Gaugings, c.Source, which), ""},
+			SummaryItem{"calibration factor on n", num("0.0000", c.Factor), ""},
+			SummaryItem{"standard error of the factor", num("0.00", c.FactorStandardErrorPercent), "%"},
+			SummaryItem{"standard error of estimate of the calibrated rating against the gaugings", num("0.00", c.StandardErrorPercent), "%"})
+		if err != nil {
+			return err
+		}
 	}
 	if lo, hi, ok := t.Extremes(); ok {
 		q, err := b.Sig3(hi.Discharge)

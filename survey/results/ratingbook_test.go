@@ -339,6 +339,32 @@ func TestRatingWorkbook(t *testing.T) {
 	}
 }
 
+// A calibrated rating's summary states the factor, its own standard
+// error and the scatter of the gaugings apart (values as the report
+// carries them, rounded by the items' formats); one gauging leaves both
+// standard errors out.
+func TestRatingWorkbookCalibration(t *testing.T) {
+	coarse, _ := wbTallow(t)
+	f := writeResults(t, rating.RatingReport{Table: coarse, Calibration: &rating.NCalibration{Source: "g.csv", Gaugings: 8, Factor: 0.86796,
+		FactorStandardErrorPercent: 0.9091, StandardErrorPercent: 2.5716}})
+	items := summaryItems(t, f)
+	for k, v := range map[string]string{
+		"n calibrated on":              "8 gauging(s) in g.csv: every n multiplied by the factor below|",
+		"calibration factor on n":      "0.86796|",
+		"standard error of the factor": "0.9091|%",
+		"standard error of estimate of the calibrated rating against the gaugings": "2.5716|%",
+	} {
+		if items[k] != v {
+			t.Errorf("summary %q = %q, want %q", k, items[k], v)
+		}
+	}
+	f = writeResults(t, rating.RatingReport{Table: coarse, Calibration: &rating.NCalibration{Source: "g.csv", Gaugings: 1, Factor: 1.25,
+		FactorStandardErrorPercent: math.NaN(), StandardErrorPercent: math.NaN()}})
+	if items := summaryItems(t, f); items["calibration factor on n"] != "1.25|" || items["standard error of the factor"] != "" {
+		t.Errorf("one gauging: %q", items)
+	}
+}
+
 func TestRatingWorkbookMinimal(t *testing.T) {
 	coarse, _ := wbTallow(t)
 	f := writeResults(t, rating.RatingReport{Table: coarse})
