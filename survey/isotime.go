@@ -445,6 +445,18 @@ func (f *offsetForm) check(row int, zoned bool) error {
 }
 
 // formatUnix writes Unix seconds as ISO 8601 in UTC, for messages.
+// formatUnixAt writes a time in Unix seconds as RFC 3339 at a UTC offset
+// of off seconds (Z at zero), as the times of a file read at that offset
+// are written.
+func formatUnixAt(sec, off int64) string {
+	if off == 0 {
+		return formatUnix(sec)
+	}
+	return time.Unix(sec, 0).In(time.FixedZone("", int(off))).Format(time.RFC3339)
+}
+
+// formatUnix writes a time in Unix seconds as RFC 3339 in UTC;
+// math.MinInt64 is "the beginning" (an open start).
 func formatUnix(sec int64) string {
 	if sec == math.MinInt64 {
 		return "the beginning"

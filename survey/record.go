@@ -288,7 +288,12 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		if sec == b.lastSec {
 			b.fail(row, b.ct, ts, fmt.Errorf("%w: the same time as row %d", ErrRepeatedTime, b.lastRow))
 		} else {
-			b.fail(row, b.ct, ts, fmt.Errorf("%w: %s is before %s, the time of row %d", ErrTimeOrder, formatUnix(sec), formatUnix(b.lastSec), b.lastRow))
+			hint := ""
+			if !zoned && b.lastSec-sec <= 3600 {
+				hint = " (a clock set back an hour, as for daylight saving, repeats times: write each time with its UTC offset)"
+			}
+			b.fail(row, b.ct, ts, fmt.Errorf("%w: %s is before %s, the time of row %d%s", ErrTimeOrder,
+				formatUnixAt(sec, b.off), formatUnixAt(b.lastSec, b.off), b.lastRow, hint))
 		}
 		return
 	}

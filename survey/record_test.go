@@ -111,6 +111,13 @@ func TestParseStageRecordErrors(t *testing.T) {
 			}
 		})
 	}
+	// Times read at an offset are quoted at it; a step back of an hour or
+	// less in times written without an offset is told as a clock set back.
+	dst := head + "2025-04-06T02:45,1\n2025-04-06T02:00,1\n"
+	_, err0 := ParseStageRecord(strings.NewReader(dst), "s.csv", StageRecordOptions{UTCOffset: 10 * time.Hour})
+	if !errors.Is(err0, ErrTimeOrder) || !strings.Contains(err0.Error(), "2025-04-06T02:00:00+10:00 is before 2025-04-06T02:45:00+10:00, the time of row 2 (a clock set back an hour") {
+		t.Errorf("clock set back: %v", err0)
+	}
 	// A file of many bad rows reports MaxReported and counts the rest.
 	var b strings.Builder
 	b.WriteString(head)
