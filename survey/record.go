@@ -289,7 +289,9 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 			b.fail(row, b.ct, ts, fmt.Errorf("%w: the same time as row %d", ErrRepeatedTime, b.lastRow))
 		} else {
 			hint := ""
-			if !zoned && b.lastSec-sec <= 3600 {
+			if !zoned && b.off != 0 && b.lastSec-sec <= 3600 {
+				// Local times (an offset given for them) stepping back
+				// an hour at most: most likely the clock change.
 				hint = " (a clock set back an hour, as for daylight saving, repeats times: write each time with its UTC offset)"
 			}
 			b.fail(row, b.ct, ts, fmt.Errorf("%w: %s is before %s, the time of row %d%s", ErrTimeOrder,
