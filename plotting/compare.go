@@ -22,10 +22,11 @@ func styleB() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg
 
 // DrawRatingComparison draws two ratings compared: both curves over their
 // whole tables (stage against discharge) and the percent difference
-// 100·(B − A)/A against stage over their common range. site titles it;
-// base starts its file name.
+// 100·(B − A)/A against stage over their common range. site titles it
+// (base when it is blank); base starts its file name.
 func DrawRatingComparison(c *gauged.RatingComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: base}
+	site = siteOrBase(site, base)
 	if err := set.add("compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
 		return ratingComparisonFigure(w, c, site, size)
 	}); err != nil {

@@ -174,3 +174,17 @@ func TestRatingAxesHoldErrorBars(t *testing.T) {
 		t.Error("an unrated gauging without an uncertainty has a bar")
 	}
 }
+
+// A figure with no site known is titled by its input's name, so that a
+// figure printed alone still says what it shows.
+func TestTitleWithoutSite(t *testing.T) {
+	for _, tc := range []struct{ site, base, want string }{
+		{"", "visits-2025", "visits-2025 — shifts against time"},
+		{"  ", "r7-vs-r8", "r7-vs-r8 — shifts against time"},
+		{"Tallow Creek", "visits-2025", "Tallow Creek — shifts against time"},
+	} {
+		if got := titleOf(siteOrBase(tc.site, tc.base), "", "shifts against time"); got != tc.want {
+			t.Errorf("site %q, base %q: %q, want %q", tc.site, tc.base, got, tc.want)
+		}
+	}
+}

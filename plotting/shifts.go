@@ -21,10 +21,11 @@ import (
 // shift against time and against stage, by quality, those outside their
 // quality band on the base rating circled, with the shift the diagrams
 // apply at each gauging (time figure) and every applied and proposed
-// diagram as a line (stage figure). site titles them; base starts their
-// file names.
+// diagram as a line (stage figure). site titles them (base
+// when it is blank); base starts their file names.
 func DrawShifts(c *gauged.ShiftCheck, site, base string, size Size) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: base}
+	site = siteOrBase(site, base)
 	for _, f := range []struct {
 		kind, caption string
 		draw          func(io.Writer, *gauged.ShiftCheck, string, Size) (Result, error)

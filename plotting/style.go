@@ -338,6 +338,17 @@ func titleOf(site, section, what string) string {
 	return strings.Join(parts, ", ") + " — " + what
 }
 
+// siteOrBase is the site a figure's title names, or when none is known
+// the base name of its files (the input's name), as a fit's figure falls
+// back to its gaugings' file: a figure printed alone still says what it
+// shows.
+func siteOrBase(site, base string) string {
+	if strings.TrimSpace(site) == "" {
+		return base
+	}
+	return site
+}
+
 // finite reports whether every value is a finite number.
 func finite(v ...float64) bool {
 	for _, x := range v {
