@@ -103,3 +103,30 @@ func TestRHatByHand(t *testing.T) {
 		t.Errorf("constant chains: %g", got)
 	}
 }
+
+// A gauging is outside its band by its own uncertainty when it gives one,
+// else by its quality's band (excellent 2 %, good 5 %, fair 8 %;
+// Turnipseed and Sauer 2010, USGS TM 3-A8); an unrated gauging is held to the fair
+// band it is weighted with; a poor one's band is open above, so it is
+// never outside.
+func TestGaugingOutside(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		g    gauged.Gauging
+		d    float64
+		want bool
+	}{
+		{"good within 5 %", gauged.Gauging{Quality: rating.Good}, 4.9, false},
+		{"good beyond 5 %", gauged.Gauging{Quality: rating.Good}, -5.1, true},
+		{"unrated beyond 8 %", gauged.Gauging{}, 14.1, true},
+		{"unrated within 8 %", gauged.Gauging{}, -7.9, false},
+		{"poor far off", gauged.Gauging{Quality: rating.Poor}, 40, false},
+		{"uncertainty 3 % over good", gauged.Gauging{Quality: rating.Good, Uncertainty: 3}, 4, true},
+		{"uncertainty 12 % over good", gauged.Gauging{Quality: rating.Good, Uncertainty: 12}, -9, false},
+		{"uncertainty on an unrated gauging", gauged.Gauging{Uncertainty: 5}, 6, true},
+	} {
+		if got := tc.g.Outside(tc.d); got != tc.want {
+			t.Errorf("%s: Outside(%g) = %v, want %v", tc.name, tc.d, got, tc.want)
+		}
+	}
+}

@@ -858,7 +858,7 @@ func residualOf(g Gauging, q float64, inverse func(float64) float64) Residual {
 	r := Residual{Gauging: g, Fitted: q, DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
 	if q > 0 {
 		r.DeparturePercent = 100 * (g.Discharge - q) / q
-		r.OutsideBand = g.Quality.Outside(r.DeparturePercent)
+		r.OutsideBand = g.Outside(r.DeparturePercent)
 	}
 	if q > 0 && g.Discharge > 0 {
 		r.LogResidual = math.Log(g.Discharge) - math.Log(q)

@@ -213,7 +213,7 @@ func departure(g Gauging, rated float64) (float64, bool) {
 		return math.NaN(), false
 	}
 	d := 100 * (g.Discharge - rated) / rated
-	return d, g.Quality.Outside(d)
+	return d, g.Outside(d)
 }
 
 // visits groups the gaugings into visits (gaps of at most gap, one rating

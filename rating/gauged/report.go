@@ -188,6 +188,22 @@ func (g Gauging) UncertaintyPercent() float64 {
 	return g.Quality.WeightPercent()
 }
 
+// Outside reports whether a departure (percent) of the gauging's
+// discharge from a rating lies outside the gauging's band: its own
+// uncertainty when one is given (percent at 95 %), else its quality's
+// band (rating.Quality.Outside); an unrated gauging is held to the fair
+// band, as a fit weights it (UncertaintyPercent). A poor gauging's band is
+// open above, so it is never outside.
+func (g Gauging) Outside(departurePercent float64) bool {
+	switch {
+	case g.Uncertainty > 0:
+		return math.Abs(departurePercent) > g.Uncertainty
+	case g.Quality == rating.Unrated:
+		return math.Abs(departurePercent) > rating.FairBandPercent
+	}
+	return g.Quality.Outside(departurePercent)
+}
+
 // ErrNoHydraulic is returned for a report that needs a hydraulic rating
 // (comparison only, the offset from the survey) and has none.
 var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating table")
