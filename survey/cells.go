@@ -8,7 +8,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"path"
+	"slices"
 	"sort"
 	"strings"
 )
@@ -169,34 +171,45 @@ func isWorksheetPart(name string) bool {
 	return strings.HasPrefix(name, "xl/worksheets/") && strings.HasSuffix(name, ".xml")
 }
 
-// scanEverySheet scans every worksheet part of an archive (styles is
-// markedStyles') and returns, by sheet name, what was found in the
-// sheets with something to tell.
+// scanEverySheet scans every sheet of an archive (styles is
+// markedStyles') and returns, by sheet name, what was found in the sheets
+// with something to tell: each sheet's part as the workbook's
+// relationships name it, or, when they cannot be read, every part under
+// xl/worksheets/ (and then a finding is an error, as it cannot be placed).
 func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) (map[string]sheetScan, error) {
-	byPart := map[string]sheetScan{}
-	for _, f := range zr.File {
-		if isWorksheetPart(f.Name) {
+	names, perr := sheetParts(zr)
+	if perr != nil {
+		for _, f := range zr.File {
+			if !isWorksheetPart(f.Name) {
+				continue
+			}
 			sc, err := scanSheet(f, styles)
 			if err != nil {
 				return nil, err
 			}
 			if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
-				byPart[f.Name] = sc
+				return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, perr)
 			}
 		}
-	}
-	if len(byPart) == 0 {
 		return nil, nil
 	}
-	parts, err := sheetParts(zr)
-	if err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, err)
-	}
 	out := map[string]sheetScan{}
-	for name, part := range parts {
-		if u, ok := byPart[part]; ok {
-			out[name] = u
+	files := partFiles(zr, names)
+	for _, name := range slices.Sorted(maps.Keys(files)) { // the first error the same each run
+		f := files[name]
+		if f == nil {
+			continue
 		}
+		sc, err := scanSheet(f, styles)
+		if err != nil {
+			return nil, err
+		}
+		if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
+			out[name] = sc
+		}
+	}
+	if len(out) == 0 {
+		return nil, nil
 	}
 	return out, nil
 }
@@ -260,17 +273,22 @@ func (s *sheetScanner) findParts() error {
 		}
 		return nil
 	}
-	files := map[string]*zip.File{}
-	for _, f := range s.zr.File {
-		if isWorksheetPart(f.Name) {
-			files[f.Name] = f
-		}
-	}
-	s.parts = map[string]*zip.File{}
-	for name, part := range names {
-		s.parts[name] = files[part]
-	}
+	s.parts = partFiles(s.zr, names)
 	return nil
+}
+
+// partFiles maps each sheet name to its part's entry in the archive,
+// wherever the relationships put it (nil when it is missing).
+func partFiles(zr *zip.Reader, parts map[string]string) map[string]*zip.File {
+	files := map[string]*zip.File{}
+	for _, f := range zr.File {
+		files[f.Name] = f
+	}
+	out := map[string]*zip.File{}
+	for name, part := range parts {
+		out[name] = files[part]
+	}
+	return out
 }
 
 // ErrNotWorkbook is the cause of a file read as a workbook that is not a
@@ -356,8 +374,10 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 			col = 0
 		case name == "c" && !tag.end:
 			col++
-			if c, r, ok := cellReference(attrValue(tag.attrs, "r")); ok {
-				col, row = c, r
+			// The column from the cell's reference; the row is its row
+			// element's, as the spreadsheet library places the cell.
+			if c, _, ok := cellReference(attrValue(tag.attrs, "r")); ok {
+				col = c
 			}
 			// A cell outside a row is not read, and not told.
 			inCell, formula, value = !tag.self && row > 0, false, false

@@ -1,10 +1,13 @@
 package survey
 
 import (
+	"archive/zip"
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -518,4 +521,88 @@ func TestParseNumberDates(t *testing.T) {
 			t.Errorf("ParseNumber(%q): %v, want ErrNotNumber", s, err)
 		}
 	}
+}
+
+// The scan of a sheet finds its date cells however the workbook is
+// written: a sheet named in another case than the workbook's, a sheet
+// part stored outside xl/worksheets/ (valid OOXML: the relationships say
+// where), a cell whose reference names another row than its row element
+// (the spreadsheet library places it by the row element).
+func TestDateCellsFoundAnyway(t *testing.T) {
+	t.Parallel()
+	path := dateBook(t, 14, false)
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	moved := renameZip(t, data, "xl/worksheets/sheet1.xml", "xl/ws/sheet1.xml", func(name string, b []byte) []byte {
+		switch name {
+		case "xl/_rels/workbook.xml.rels":
+			return bytes.ReplaceAll(b, []byte("worksheets/sheet1.xml"), []byte("ws/sheet1.xml"))
+		case "[Content_Types].xml":
+			return bytes.ReplaceAll(b, []byte("/xl/worksheets/sheet1.xml"), []byte("/xl/ws/sheet1.xml"))
+		}
+		return b
+	})
+	forged := rewriteZip(t, data, func(name string, b []byte) []byte {
+		if name != "xl/worksheets/sheet1.xml" {
+			return b
+		}
+		return bytes.Replace(b, []byte(`r="A6"`), []byte(`r="A9"`), 1)
+	})
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		name  string
+		data  []byte
+		sheet string
+	}{
+		{"sheet named in upper case", data, "XS"},
+		{"part outside xl/worksheets", moved, ""},
+		{"cell reference on another row", forged, ""},
+	} {
+		p := filepath.Join(dir, "xs.xlsx")
+		if err := os.WriteFile(p, tc.data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadSection(p, tc.sheet, SectionOptions{})
+		if !errors.Is(err, ErrDateNotNumber) || !strings.Contains(err.Error(), `xs.xlsx['xs']!A6: station "2026-06-01"`) {
+			t.Errorf("%s: %v, want ErrDateNotNumber at ['xs']!A6", tc.name, err)
+		}
+	}
+}
+
+// renameZip returns the zip archive data with the entry from renamed to
+// to and every entry passed through edit.
+func renameZip(t *testing.T, data []byte, from, to string, edit func(name string, b []byte) []byte) []byte {
+	t.Helper()
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	zw := zip.NewWriter(&out)
+	for _, zf := range zr.File {
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		name := zf.Name
+		if name == from {
+			name = to
+		}
+		w, err := zw.Create(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write(edit(zf.Name, b))
+	}
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return out.Bytes()
 }

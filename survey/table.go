@@ -545,6 +545,14 @@ func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 		if idx, _ := f.GetSheetIndex(sheet); idx < 0 {
 			return "", nil, &ParseError{File: path, Sheet: sheet, Err: fmt.Errorf("no such sheet (sheets: %s)", strings.Join(sheets, ", "))}
 		}
+		// The sheet as the workbook names it: a name is found in any
+		// case, and the sheet's scan and messages go by its own name.
+		for _, s := range sheets {
+			if strings.EqualFold(s, sheet) {
+				sheet = s
+				break
+			}
+		}
 		if !sheetVisible(f, sheet) {
 			return sheet, []string{HiddenSheetWarning(path, sheet)}, nil
 		}
@@ -562,11 +570,12 @@ func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 }
 
 // sheetTable reads a table from a sheet of an open workbook (sheet "" is
-// the first visible sheet, see chooseSheet). Cells are read raw: numbers
-// as written, dates as serials; but a boolean cell reads TRUE or FALSE and
-// a percent-formatted number the percent it shows (see inputBook.shown). A value after the header's last named
-// column is an error at its cell (ErrBeyondHeader), as in ParseCSV. Two-cell rows above the header whose
-// first cell is one of MetaKeys are kept in Meta.
+// the first visible sheet, see chooseSheet). Cells are read raw, numbers
+// as written, but as a spreadsheet shows them where the two differ (a
+// boolean, a percent, a date: see inputBook.shown). A value after the
+// header's last named column is an error at its cell (ErrBeyondHeader), as
+// in ParseCSV. Two-cell rows above the header whose first cell is one of
+// MetaKeys are kept in Meta.
 func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	sheet, warnings, err := chooseSheet(f, path, sheet)
