@@ -191,9 +191,9 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	st, rated, codes := withoutMissingCodes(st, r, zone(off))
+	st, units, codes := rateReadings(st, r, zone(off))
 	res := &Result{
-		Name: st.Name, Units: make([]UnitValue, len(st.Time)), Qualities: append([]string(nil), st.Qualities...),
+		Name: st.Name, Units: units, Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
 		Zone: zone(off), UnitSystem: opt.UnitSystem,
 	}
@@ -202,7 +202,7 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 		res.Warnings = append(res.Warnings, codes)
 	}
 	c := newCounter(res, st, off)
-	res.unitValues(st, rated, r, maxGap, c)
+	res.unitValues(r, maxGap, c)
 	c.integrate(st, r, maxGap)
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)
@@ -273,18 +273,18 @@ type lowReadings struct {
 	lowestAt int64   // its time
 }
 
-// take counts reading h at time t, rated by v on the table rt (nil without a
-// rating). A reading is below zero flow when its effective gauge height is
-// strictly below the table's zero-flow stage (at it, zero flow is the true
-// discharge). Readings far below the table (FarBelowTable) never come
-// here: withoutMissingCodes has left them out.
-func (l *lowReadings) take(t int64, h float64, v gauged.Rated, rt *gauged.TableRating) {
+// take counts unit value u, rated on the table rt (nil without a
+// rating). A reading is below zero flow when it was rated zero flow and
+// its effective gauge height is strictly below the table's zero-flow stage
+// (at it, zero flow is the true discharge). Readings far below the table
+// (FarBelowTable) never come here: rateReadings has left them out.
+func (l *lowReadings) take(u *UnitValue, rt *gauged.TableRating) {
 	if rt == nil {
 		return
 	}
-	if e, ok := rt.ZeroFlow(); ok && v.Lookup == gauged.ZeroFlow && v.Effective < e {
-		if l.below == 0 || h < l.lowest {
-			l.lowest, l.lowestAt = h, t
+	if e, ok := rt.ZeroFlow(); ok && u.Flags&BelowZeroFlow != 0 && u.Effective < e {
+		if l.below == 0 || u.Stage < l.lowest {
+			l.lowest, l.lowestAt = u.Stage, u.Time
 		}
 		l.below++
 	}
@@ -310,20 +310,30 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 	return warnings
 }
 
-// withoutMissingCodes rates every reading of st once and returns the
-// readings that do not lie below the lowest row of their rating table by
-// more than FarBelowTable times the table's stage range, with their rated
-// values. Those far below are missing-value codes, left out as a blank
-// stage is, so that they add nothing to the means and leave their day's
-// coverage short. The warning, "" when there are none, counts them and
-// names the first.
-func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []gauged.Rated, string) {
-	rated := make([]gauged.Rated, len(st.Time))
+// rateReadings rates every reading of st once, into its unit value (with
+// the flags of its lookup; gaps are marked later), and leaves out the
+// readings that lie below the lowest row of their rating table by more
+// than FarBelowTable times the table's stage range: missing-value codes,
+// left out as a blank stage is, so that they add nothing to the means and
+// leave their day's coverage short. It returns the readings kept (st
+// itself when none is left out) and their unit values, and the warning,
+// "" when none is left out, that counts them and names the first. One
+// unit value a reading is all it holds.
+func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []UnitValue, string) {
+	units := make([]UnitValue, len(st.Time))
 	drop := make([]bool, len(st.Time))
 	first, n := -1, 0
 	for i, t := range st.Time {
 		v := r.AtUnix(t, st.Stage[i], false)
-		rated[i] = v
+		u := UnitValue{Time: t, Stage: st.Stage[i], Shift: v.Shift, Effective: v.Effective, Discharge: v.Discharge,
+			Period: int32(v.Period), Flags: lookupFlag[v.Lookup]}
+		if st.Quality != nil {
+			u.Quality = st.Quality[i]
+		}
+		if v.AboveGaugings {
+			u.Flags |= AboveGaugings
+		}
+		units[i] = u
 		if rt := r.Rating(v.Period); rt != nil {
 			lo, hi := rt.Range()
 			if v.Effective < lo-FarBelowTable*(hi-lo) {
@@ -336,10 +346,10 @@ func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages
 		}
 	}
 	if first < 0 {
-		return st, rated, ""
+		return st, units, ""
 	}
 	out := &Stages{Name: st.Name, Qualities: st.Qualities}
-	kept := rated[:0]
+	kept := units[:0] // compacted in place
 	for i := range st.Time {
 		if drop[i] {
 			continue
@@ -349,39 +359,30 @@ func withoutMissingCodes(st *Stages, r *gauged.Rater, z *time.Location) (*Stages
 		if st.Quality != nil {
 			out.Quality = append(out.Quality, st.Quality[i])
 		}
-		kept = append(kept, rated[i])
+		kept = append(kept, units[i])
 	}
 	return out, kept, fmt.Sprintf("%d reading(s) lie below the lowest row of their rating table by more than the table's whole stage range "+
 		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings", n, st.Stage[first],
 		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
 }
 
-// unitValues makes the unit value of every reading of st from its rated
-// value (rated[i] is reading i's).
-func (res *Result) unitValues(st *Stages, rated []gauged.Rated, r *gauged.Rater, maxGap int64, c *counter) {
+// unitValues finishes the unit values rateReadings made: it marks the
+// gaps longer than maxGap, counts each period's readings, gathers the
+// readings below zero flow and adds each value to the daily counter.
+func (res *Result) unitValues(r *gauged.Rater, maxGap int64, c *counter) {
 	var low lowReadings
-	for i, t := range st.Time {
-		h := st.Stage[i]
-		v := rated[i]
-		low.take(t, h, v, r.Rating(v.Period))
-		u := UnitValue{Time: t, Stage: h, Shift: v.Shift, Effective: v.Effective, Discharge: v.Discharge, Period: int32(v.Period)}
-		if st.Quality != nil {
-			u.Quality = st.Quality[i]
-		}
-		u.Flags = lookupFlag[v.Lookup]
-		if v.AboveGaugings {
-			u.Flags |= AboveGaugings
-		}
-		if i > 0 && t-st.Time[i-1] > maxGap {
+	for i := range res.Units {
+		u := &res.Units[i]
+		low.take(u, r.Rating(int(u.Period)))
+		if i > 0 && u.Time-res.Units[i-1].Time > maxGap {
 			u.Flags |= Gap
 		}
-		if v.Period >= 0 && v.Lookup != gauged.NoRating {
-			res.Periods[v.Period].Readings++
+		if u.Period >= 0 && u.Flags&NoRating == 0 {
+			res.Periods[u.Period].Readings++
 		}
-		res.Units[i] = u
-		c.reading(u)
+		c.reading(*u)
 	}
-	res.Warnings = low.warn(len(st.Time), res.Zone, res.Warnings)
+	res.Warnings = low.warn(len(res.Units), res.Zone, res.Warnings)
 }
 
 // lookupFlag is the flag of each way a discharge was found.
