@@ -642,7 +642,7 @@ func readXML(zr *zip.Reader, name string, v any) error {
 // 10, or a custom code whose first section ends in an unquoted, unescaped
 // percent sign), markDate for a date or a time of day (the built-in
 // formats 14 to 22 and 45 to 47, the built-in East Asian date formats 27
-// to 36 and 50 to 58, or a custom code that dateFormat reads as one). A
+// to 36 and 50 to 58 and Thai 71 to 81, or a custom code that dateFormat reads as one). A
 // workbook with no styles part, or one that cannot be read, has none.
 //
 // References:
@@ -663,7 +663,7 @@ func markedStyles(zr *zip.Reader) map[int64]cellMark {
 		return nil
 	}
 	formats := map[int64]cellMark{9: markPercent, 10: markPercent}
-	for _, r := range [][2]int64{{14, 22}, {27, 36}, {45, 47}, {50, 58}} {
+	for _, r := range [][2]int64{{14, 22}, {27, 36}, {45, 47}, {50, 58}, {71, 81}} {
 		for id := r[0]; id <= r[1]; id++ {
 			formats[id] = markDate
 		}
@@ -717,7 +717,7 @@ func dateFormat(code string) bool {
 			if j < 0 {
 				return false
 			}
-			inner := strings.ToLower(strings.Trim(code[i+1:i+j], "hms"))
+			inner := strings.Trim(strings.ToLower(code[i+1:i+j]), "hms")
 			if inner == "" && j > 1 {
 				return true // [h], [mm], [ss]: elapsed time
 			}

@@ -148,7 +148,7 @@ func projectPoints(t *Table, rows []Record, e, n []float64, marks []string, opt 
 		lo = 0 // stations count from the given left end
 	}
 	for i := range st {
-		st[i] -= lo
+		st[i] = st[i] - lo + 0 // + 0: a station of −0 is 0 (IEEE 754 sum)
 	}
 	pr.OriginE, pr.OriginN = x0+lo*dx, y0+lo*dy
 	pr.Azimuth = math.Mod(math.Atan2(dx, dy)*180/math.Pi+360, 360)

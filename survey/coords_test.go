@@ -226,6 +226,18 @@ func TestCoordinateSurveyLineGivenTurned(t *testing.T) {
 	if !sv.Projection.LineTurned || !strings.Contains(strings.Join(sv.Warnings, "\n"), "the line given starts on the right bank") {
 		t.Errorf("turned %v, warnings %q", sv.Projection.LineTurned, sv.Warnings)
 	}
+	// A point on the turned line's left end is at station 0, not −0
+	// (which messages would write "-0").
+	east := "easting,northing,elevation,n\n0,0,5,0.035\n10,0.2,1,\n20,-0.1,1,\n30,0,5,\n"
+	sv, err = ParseSection(strings.NewReader(east), "e.csv", SectionOptions{Coordinates: CoordinateOptions{Given: true, Line: [4]float64{0, 0, 30, 0}, FlowAzimuth: 180, FlowGiven: true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range sv.Section.Points {
+		if math.Signbit(p.Station) {
+			t.Errorf("station %g has its sign bit set", p.Station)
+		}
+	}
 }
 
 // Points far off the line are warned about, at their row and column,

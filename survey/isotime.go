@@ -444,7 +444,6 @@ func (f *offsetForm) check(row int, zoned bool) error {
 	return fmt.Errorf("%w: row %d has one, row %d has none", ErrMixedOffsets, with, without)
 }
 
-// formatUnix writes Unix seconds as ISO 8601 in UTC, for messages.
 // formatUnixAt writes a time in Unix seconds as RFC 3339 at a UTC offset
 // of off seconds (Z at zero), as the times of a file read at that offset
 // are written.

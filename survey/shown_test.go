@@ -475,6 +475,7 @@ func TestDateShown(t *testing.T) {
 		{"46174.4375", false, "2026-06-01T10:30:00"},
 		{"44712", true, "2026-06-01"},
 		{"0.4375", false, "10:30:00"},
+		{"0.99999999", false, "23:59:59"},
 		{"-1", false, "-1"},
 		{"x", false, "x"},
 		{"", false, ""},
@@ -490,7 +491,7 @@ func TestDateShown(t *testing.T) {
 func TestDateFormat(t *testing.T) {
 	t.Parallel()
 	for code, want := range map[string]bool{
-		"yyyy-mm-dd": true, "d mmm yyyy": true, "m/d/yy h:mm": true, "[h]:mm:ss": true, "h:mm AM/PM": true,
+		"yyyy-mm-dd": true, "d mmm yyyy": true, "m/d/yy h:mm": true, "[h]:mm:ss": true, "h:mm AM/PM": true, "[H]:MM": true, "[HH]:mm:ss": true,
 		"[$-409]d-mmm-yy": true, "[Red]dd/mm/yyyy": true, "mm:ss.0": true,
 		"General": false, "0.00": false, "0.00E+00": false, `0.0" m"`: false, `0.0\ \m`: false, "[Red]0.00": false,
 		"#,##0.00;[Red]-#,##0.00": false, "@": false, "": false, `_-* #,##0_-`: false, "0.0;d": false,
@@ -506,7 +507,7 @@ func TestDateFormat(t *testing.T) {
 // date.
 func TestParseNumberDates(t *testing.T) {
 	t.Parallel()
-	for _, s := range []string{"2026-06-01", "2026-06-01T10:15", "6/1/2026", "01.06.26", "1-6-2026", "10:15", "10:15:00", "1-Jun", "1 Jun 2026", "Jun-26", "jun"} {
+	for _, s := range []string{"2026-06-01", "2026-06-01T10:15", "6/1/2026", "01.06.26", "1-6-2026", "10:15", "10:15:00", "1-Jun", "1 Jun 2026", "Jun-26"} {
 		if _, err := ParseNumber(s); !errors.Is(err, ErrDateNotNumber) {
 			t.Errorf("ParseNumber(%q): %v, want ErrDateNotNumber", s, err)
 		}
@@ -516,7 +517,7 @@ func TestParseNumberDates(t *testing.T) {
 			t.Errorf("ParseNumber(%q): %v", s, err)
 		}
 	}
-	for _, s := range []string{"1-6", "june", "XS-1", "12 m"} {
+	for _, s := range []string{"1-6", "june", "jun", "may", "XS-1", "12 m"} {
 		if _, err := ParseNumber(s); !errors.Is(err, ErrNotNumber) {
 			t.Errorf("ParseNumber(%q): %v, want ErrNotNumber", s, err)
 		}

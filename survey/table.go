@@ -186,7 +186,7 @@ func dateShown(raw string, date1904 bool) string {
 	case err != nil || math.IsNaN(v) || v < 0 || v > MaxDateSerial:
 		return raw
 	case v < MinDateSerial:
-		sec := int64(math.Round(v * 86400))
+		sec := min(int64(math.Round(v*86400)), 86399) // the last second, not the next midnight
 		return time.Unix(sec, 0).UTC().Format("15:04:05")
 	}
 	t, err := serialTime(v, date1904, ErrISOTime)
@@ -846,7 +846,7 @@ func ParseNumber(s string) (float64, error) {
 // dates with an English month name as spreadsheets export them (1-Jun,
 // 1 Jun 2026, Jun-26) and times of day (10:15, 10:15:00).
 var datePattern = regexp.MustCompile(`(?i)^(\d{4}-\d{2}-\d{2}([T ]\d{1,2}:\d{2}(:\d{2})?)?|\d{1,2}[/.-]\d{1,2}[/.-]\d{2,4}|\d{1,2}:\d{2}(:\d{2})?|` +
-	`(\d{1,2}[- ])?(jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)([- ]\d{1,4})?)$`)
+	`\d{1,2}[- ](jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)([- ]\d{1,4})?|(jan|feb|mar|apr|may|jun|jul|aug|sep|oct|nov|dec)[- ]\d{1,4})$`)
 
 // dateLike reports text that is a date or a time of day (datePattern).
 func dateLike(s string) bool { return datePattern.MatchString(s) }

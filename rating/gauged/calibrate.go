@@ -106,6 +106,10 @@ var ErrCalibrate = errors.New("no gauging can calibrate n")
 //	(Manning's equation, conveyance ∝ 1/n).
 //	Nelder, J. A., Mead, R. (1965). A simplex method for function
 //	minimization. The Computer Journal 7(4), 308–313.
+//	Draper, N. R., Smith, H. (1998). Applied Regression Analysis, 3rd ed.
+//	Wiley, New York, chapters 9 and 24 (weighted least squares; the
+//	standard error of a nonlinear estimate from the gradient, as used
+//	for the factor's standard error; from memory).
 func Calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool) (Calibration, error) {
 	return calibrate(gs, c, channelOnly, Selection{})
 }

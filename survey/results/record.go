@@ -383,6 +383,17 @@ func (rw *rowWriter) unitJSON(res *record.Result, i int) error {
 	return err
 }
 
+// appendJSONTime appends t in zone z as a JSON string in
+// RecordTimeLayout, or null for the zero time (none).
+func appendJSONTime(b []byte, t time.Time, z *time.Location) []byte {
+	if t.IsZero() {
+		return append(b, "null"...)
+	}
+	b = append(b, '"')
+	b = t.In(z).AppendFormat(b, RecordTimeLayout)
+	return append(b, '"')
+}
+
 // dailyJSON writes a daily value as a JSON object on a line of its own.
 func (rw *rowWriter) dailyJSON(d record.DailyValue, z *time.Location, first bool) error {
 	b := rw.b[:0]
@@ -398,25 +409,13 @@ func (rw *rowWriter) dailyJSON(d record.DailyValue, z *time.Location, first bool
 	b = append(b, ", \"max\": "...)
 	b = appendJSONNumber(appendFloat6(b, d.Max), len(b))
 	b = append(b, ", \"max_time\": "...)
-	if d.MaxTime.IsZero() {
-		b = append(b, "null"...)
-	} else {
-		b = append(b, '"')
-		b = d.MaxTime.In(z).AppendFormat(b, RecordTimeLayout)
-		b = append(b, '"')
-	}
+	b = appendJSONTime(b, d.MaxTime, z)
 	b = append(b, ", \"coverage\": "...)
 	b = appendJSONNumber(appendFloat6(b, d.Coverage), len(b))
 	b = append(b, ", \"flags\": ["...)
 	b = rw.appendFlags(b, d.Flags, ", ", true)
 	b = append(b, "], \"min_time\": "...)
-	if d.MinTime.IsZero() {
-		b = append(b, "null"...)
-	} else {
-		b = append(b, '"')
-		b = d.MinTime.In(z).AppendFormat(b, RecordTimeLayout)
-		b = append(b, '"')
-	}
+	b = appendJSONTime(b, d.MinTime, z)
 	b = append(b, ", \"readings\": "...)
 	b = strconv.AppendInt(b, int64(d.Readings), 10)
 	b = append(b, '}')
