@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -619,5 +620,37 @@ func TestFitExcludeMatchesNoGauging(t *testing.T) {
 	doc := fitJSON(t, fitDemoGaugings, "--method", "lsq", "--exclude", "2019-05-19T18:45+10:00") // 08:45 UTC
 	if s := doc["selection"].(map[string]any); s["excluded"] != 1.0 {
 		t.Errorf("a matching time written at +10:00: selection %v", s)
+	}
+}
+
+// A fit on a section states its calibration of n in JSON with the keys of
+// its contract, in order: the factor, the factor's own standard error, the
+// gaugings' scatter about the calibrated rating, channel_only. With every
+// n scaled, as here, the factor's standard error is the scatter over √n
+// in ln units (the standard error of a weighted mean), so below it.
+func TestFitCalibrationJSON(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--method", "lsq", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]json.RawMessage
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	keys := jsonKeys(t, doc["calibration"])
+	if want := []string{"factor", "factor_standard_error_percent", "standard_error_percent", "channel_only"}; !slices.Equal(keys, want) {
+		t.Errorf("calibration keys %q, want %q", keys, want)
+	}
+	var c struct {
+		Factor   float64 `json:"factor"`
+		FactorSE float64 `json:"factor_standard_error_percent"`
+		SE       float64 `json:"standard_error_percent"`
+	}
+	if err := json.Unmarshal(doc["calibration"], &c); err != nil {
+		t.Fatal(err)
+	}
+	if !(c.Factor > 0 && c.FactorSE > 0 && c.FactorSE < c.SE) {
+		t.Errorf("calibration %+v", c)
 	}
 }

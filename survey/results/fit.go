@@ -299,38 +299,38 @@ type jsonControl struct {
 // order of its contract: the keys of earlier versions first, new keys
 // after the table.
 type jsonFitReport struct {
-	Site          string             `json:"site"`
-	Units         map[string]string  `json:"units"`
-	Datum         Float              `json:"datum"`
-	Slope         Float              `json:"slope"`
-	ZeroFlow      any                `json:"zero_flow"`
-	Segments      []jsonSegment      `json:"segments"`
-	Breakpoints   []jsonBreak        `json:"breakpoints"`
-	SEPercent     Float              `json:"standard_error_percent"`
-	SELog         Float              `json:"standard_error_log"`
-	Fitted        int                `json:"gaugings_fitted"`
-	Params        int                `json:"parameters"`
-	PoorFit       bool               `json:"poor_fit"`
-	Gaugings      []jsonGauging      `json:"gaugings"`
-	Calibration   any                `json:"calibration"`
-	Extrapolation *jsonExtrapolation `json:"extrapolation"`
-	Table         []jsonTableRow     `json:"table"`
-	Method        string             `json:"method"`
-	Convention    string             `json:"uncertainty_convention"`
-	HydSource     string             `json:"hydraulic_source"`
-	BankStage     Float              `json:"bank_stage"`
-	Floodplain    bool               `json:"floodplain_added"`
-	Selection     jsonSelection      `json:"selection"`
-	BandNote      string             `json:"band_note"`
-	BandsWithheld bool               `json:"bands_withheld"`
-	MoreControls  *jsonMore          `json:"more_controls"`
-	Tests         *jsonTests         `json:"relation_tests"`
-	Johnson       *jsonJohnson       `json:"johnson"`
-	Posterior     *jsonPosterior     `json:"posterior"`
-	Prior         []jsonControl      `json:"prior_rating"`
-	Warnings      []string           `json:"warnings"`
-	Caution       string             `json:"caution"`
-	SiteMetadata  *jsonSite          `json:"site_metadata"`
+	Site          string              `json:"site"`
+	Units         map[string]string   `json:"units"`
+	Datum         Float               `json:"datum"`
+	Slope         Float               `json:"slope"`
+	ZeroFlow      any                 `json:"zero_flow"`
+	Segments      []jsonSegment       `json:"segments"`
+	Breakpoints   []jsonBreak         `json:"breakpoints"`
+	SEPercent     Float               `json:"standard_error_percent"`
+	SELog         Float               `json:"standard_error_log"`
+	Fitted        int                 `json:"gaugings_fitted"`
+	Params        int                 `json:"parameters"`
+	PoorFit       bool                `json:"poor_fit"`
+	Gaugings      []jsonGauging       `json:"gaugings"`
+	Calibration   *jsonFitCalibration `json:"calibration"`
+	Extrapolation *jsonExtrapolation  `json:"extrapolation"`
+	Table         []jsonTableRow      `json:"table"`
+	Method        string              `json:"method"`
+	Convention    string              `json:"uncertainty_convention"`
+	HydSource     string              `json:"hydraulic_source"`
+	BankStage     Float               `json:"bank_stage"`
+	Floodplain    bool                `json:"floodplain_added"`
+	Selection     jsonSelection       `json:"selection"`
+	BandNote      string              `json:"band_note"`
+	BandsWithheld bool                `json:"bands_withheld"`
+	MoreControls  *jsonMore           `json:"more_controls"`
+	Tests         *jsonTests          `json:"relation_tests"`
+	Johnson       *jsonJohnson        `json:"johnson"`
+	Posterior     *jsonPosterior      `json:"posterior"`
+	Prior         []jsonControl       `json:"prior_rating"`
+	Warnings      []string            `json:"warnings"`
+	Caution       string              `json:"caution"`
+	SiteMetadata  *jsonSite           `json:"site_metadata"`
 }
 
 // WriteFitJSON writes a gaugings report as one JSON object:
@@ -374,8 +374,8 @@ func WriteFitJSON(w io.Writer, r *gauged.Report) error {
 		out.Gaugings = append(out.Gaugings, jsonGaugingOf(r, i, g))
 	}
 	if c := r.Calibration; c != nil {
-		out.Calibration = map[string]any{"factor": Float(c.Factor), "channel_only": c.ChannelOnly,
-			"standard_error_percent": Float(c.StandardErrorPercent)}
+		out.Calibration = &jsonFitCalibration{Factor: Float(c.Factor), FactorStandardErrorPercent: Float(c.FactorStandardErrorPercent),
+			StandardErrorPercent: Float(c.StandardErrorPercent), ChannelOnly: c.ChannelOnly}
 	}
 	if t := r.Table; t != nil {
 		out.Extrapolation = jsonExtrapolationOf(r, t)
@@ -725,8 +725,8 @@ func writeCalibration(p printer, r *gauged.Report) {
 	if c.ChannelOnly {
 		which = "the channel's n"
 	}
-	p("Best factor on %s (least squares in ln Q): %.4f; the calibrated rating's standard error %s %%\n",
-		which, c.Factor, fixed(c.StandardErrorPercent, 2))
+	p("Best factor on %s (least squares in ln Q): %.4f (standard error of the factor %s %%); the calibrated rating's standard error %s %%\n",
+		which, c.Factor, fixed(c.FactorStandardErrorPercent, 2), fixed(c.StandardErrorPercent, 2))
 	pts := append([]gauged.NPoint(nil), c.Points...)
 	sort.SliceStable(pts, func(i, j int) bool { return pts[i].Stage < pts[j].Stage })
 	p("\nBack-calculated n against stage (n of the scaled subsection carrying the most conveyance):\n")
@@ -772,4 +772,15 @@ func fitStar(b bool) string {
 		return "*"
 	}
 	return " "
+}
+
+// jsonFitCalibration is a fit report's calibration of the section's n in
+// JSON: the factor, its own standard error in percent, the gaugings'
+// scatter about the calibrated rating (its standard error of estimate, in
+// percent) and whether only the channel's n was scaled.
+type jsonFitCalibration struct {
+	Factor                     Float `json:"factor"`
+	FactorStandardErrorPercent Float `json:"factor_standard_error_percent"`
+	StandardErrorPercent       Float `json:"standard_error_percent"`
+	ChannelOnly                bool  `json:"channel_only"`
 }

@@ -164,6 +164,7 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 			which = "the channel's n"
 		}
 		add("calibration factor on "+which, num("0.0000", c.Factor), "")
+		add("standard error of the factor", num("0.00", c.FactorStandardErrorPercent), "%")
 		add("standard error of the calibrated rating", num("0.00", c.StandardErrorPercent), "%")
 	}
 	if t := r.Table; t != nil {
