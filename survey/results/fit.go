@@ -303,7 +303,7 @@ type jsonFitReport struct {
 	Units         map[string]string   `json:"units"`
 	Datum         Float               `json:"datum"`
 	Slope         Float               `json:"slope"`
-	ZeroFlow      any                 `json:"zero_flow"`
+	ZeroFlow      *jsonZeroFlow       `json:"zero_flow"`
 	Segments      []jsonSegment       `json:"segments"`
 	Breakpoints   []jsonBreak         `json:"breakpoints"`
 	SEPercent     Float               `json:"standard_error_percent"`
@@ -392,8 +392,7 @@ func WriteFitJSON(w io.Writer, r *gauged.Report) error {
 // fillJSONFit fills the fit's part of the JSON report.
 func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 	c0 := f.Controls[0]
-	out.ZeroFlow = map[string]any{"stage": Float(c0.B), "standard_error": Float(c0.BSE),
-		"fixed": f.OffsetFixed, "source": f.OffsetSource}
+	out.ZeroFlow = &jsonZeroFlow{Fixed: f.OffsetFixed, Source: f.OffsetSource, Stage: Float(c0.B), StandardError: Float(c0.BSE)}
 	for j, c := range f.Controls {
 		lo, hi := exponentBounds(f, j)
 		out.Segments = append(out.Segments, jsonSegment{Float(c.From), Float(segmentTo(f, j)), Float(c.A), Float(c.ASE),
@@ -783,4 +782,15 @@ type jsonFitCalibration struct {
 	FactorStandardErrorPercent Float `json:"factor_standard_error_percent"`
 	StandardErrorPercent       Float `json:"standard_error_percent"`
 	ChannelOnly                bool  `json:"channel_only"`
+}
+
+// jsonZeroFlow is a fit's gauge height of zero flow in JSON, its keys in
+// the order the report has always written them: whether it was held
+// fixed, where it came from, the stage and its standard error (length
+// unit).
+type jsonZeroFlow struct {
+	Fixed         bool   `json:"fixed"`
+	Source        string `json:"source"`
+	Stage         Float  `json:"stage"`
+	StandardError Float  `json:"standard_error"`
 }
