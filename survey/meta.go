@@ -99,6 +99,22 @@ func siteOf(m map[string]string) rating.Site {
 	return rating.Site{Name: m[MetaSite], ID: m[MetaSiteID], Surveyed: m[MetaSurveyed], Datum: m[MetaDatum], Crew: m[MetaCrew]}
 }
 
+// commentRow reports a sheet row that is a comment line, as a CSV file's
+// '#' lines are (a CSV output opened in a spreadsheet keeps them as rows):
+// its first cell starts with '#'. line is the row's cells joined as the
+// CSV line they were split from, trailing blank cells dropped, for
+// addMetaLine.
+func commentRow(rec []string) (line string, ok bool) {
+	if len(rec) == 0 || !strings.HasPrefix(strings.TrimSpace(rec[0]), "#") {
+		return "", false
+	}
+	cells := trimAll(rec)
+	for len(cells) > 0 && cells[len(cells)-1] == "" {
+		cells = cells[:len(cells)-1]
+	}
+	return strings.Join(cells, ","), true
+}
+
 // metaRow reads a sheet row above the header as a key and its value: the
 // first cell one of MetaKeys (a trailing colon allowed), the second its
 // value, nothing after.

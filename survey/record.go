@@ -168,6 +168,12 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 			continue
 		}
 		f.shown(sheet, n, rec)
+		if line, ok := commentRow(rec); ok {
+			if b.header == nil {
+				meta = addMetaLine(meta, line)
+			}
+			continue
+		}
 		if b.header == nil {
 			if k, v, ok := metaRow(rec); ok {
 				if meta == nil {

@@ -486,6 +486,14 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 			if len(rec) == 1 && strings.Contains(rec[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
+			if k, v, ok := metaRow(rec); ok {
+				// A key row of a sheet's site block, saved as CSV.
+				if b.t.Meta == nil {
+					b.t.Meta = map[string]string{}
+				}
+				b.t.Meta[k] = v
+				continue
+			}
 			if err := b.header(rec, line); err != nil {
 				return nil, err
 			}
@@ -605,6 +613,12 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 			continue
 		}
 		f.shown(sheet, n, rec)
+		if line, ok := commentRow(rec); ok {
+			if b.t.Header == nil {
+				b.t.Meta = addMetaLine(b.t.Meta, line)
+			}
+			continue
+		}
 		if b.t.Header == nil {
 			if k, v, ok := metaRow(rec); ok {
 				if b.t.Meta == nil {
@@ -964,7 +978,8 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		if err != nil {
 			return false, err
 		}
-		if _, _, meta := metaRow(rec); blank(rec) || meta {
+		_, comment := commentRow(rec)
+		if _, _, meta := metaRow(rec); blank(rec) || meta || comment {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}

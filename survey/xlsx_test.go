@@ -113,3 +113,49 @@ func TestWorkbookNotZip(t *testing.T) {
 		}
 	}
 }
+
+// A CSV output opened in a spreadsheet and saved as a workbook keeps its
+// '#' lines as rows (split at their commas): they are comments, as in the
+// CSV file, their key lines the site block; and a sheet's two-cell key
+// rows saved as CSV are its site block too.
+func TestCommentRowsRoundTrip(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	book := writeBook(t, dir, map[string][][]any{"xs": {
+		{"# site: Reedy Creek at Sawpit (invented)"},
+		{"# projected by wetline", " with offsets"},
+		{"station (m)", "elevation (m)", "n"},
+		{0, 3, 0.035},
+		{"# a note between rows"},
+		{4, 0, 0.035},
+		{8, 3},
+	}, "stages": {
+		{"# site: Reedy Creek at Sawpit (invented)"},
+		{"time", "stage"},
+		{"2026-03-29T00:00", 0.5},
+		{"# logger swapped"},
+		{"2026-03-29T00:15", 0.52},
+	}}, []string{"xs", "stages"})
+	sv, err := ReadSection(book, "xs", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(sv.Section.Points) != 3 || sv.Site.Name != "Reedy Creek at Sawpit (invented)" {
+		t.Errorf("section: %d points, site %q", len(sv.Section.Points), sv.Site.Name)
+	}
+	rec, err := ReadStageRecord(book, StageRecordOptions{Sheet: "stages"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rec.Stages.Len() != 2 || rec.Site.Name != "Reedy Creek at Sawpit (invented)" {
+		t.Errorf("stage record: %d readings, site %q", rec.Stages.Len(), rec.Site.Name)
+	}
+	csvText := "site,Reedy Creek at Sawpit,,,\nsite id,,,,\ndatum,\"local, gauge zero 49.80\",,,\nstation (m),elevation (m),n,mark,note\n0,3,0.035,,\n4,0,0.035,,\n8,3,,,\n"
+	sv, err = ParseSection(strings.NewReader(csvText), "xs.csv", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sv.Site.Name != "Reedy Creek at Sawpit" || sv.Site.Datum != "local, gauge zero 49.80" || len(sv.Section.Points) != 3 {
+		t.Errorf("CSV key rows: site %+v, %d points", sv.Site, len(sv.Section.Points))
+	}
+}
