@@ -396,8 +396,24 @@ func cellTimeZone[T string | []byte](s T, inWorkbook, date1904 bool, off int64) 
 	if err != nil {
 		return 0, 0, false, err
 	}
+	if t.Year() < PlainSerialMinYear {
+		return 0, 0, false, fmt.Errorf("%w (as a date serial it would be %s)", ErrPlainNumberTime, t.Format("2006-01-02T15:04:05"))
+	}
 	return t.Unix() - off, off, false, nil
 }
+
+// PlainSerialMinYear is the first year a plain number cell (one without a
+// date format: a date-formatted cell reads as the date it shows) is read
+// as a date serial in a time column. A spreadsheet leaves a time made by a
+// formula a plain number, and such serials of recent years are read; a
+// smaller number (a day of the year, hours since the start) would be a
+// date in 1900 to 1949, which no gauge record holds, and is refused
+// (ErrPlainNumberTime).
+const PlainSerialMinYear = 1950
+
+// ErrPlainNumberTime is the cause of a plain number cell in a time column
+// that would be a date before PlainSerialMinYear.
+var ErrPlainNumberTime = errors.New("a plain number, not a date: format the cell as a date, or write the time in ISO 8601")
 
 // serialTime turns a workbook date serial into the time it stands for
 // (in UTC, rounded to the second). A serial out of range, or one that

@@ -607,3 +607,33 @@ func renameZip(t *testing.T, data []byte, from, to string, edit func(name string
 	}
 	return out.Bytes()
 }
+
+// A plain number in a time column (no date format) is read as a date
+// serial only when it is a date of PlainSerialMinYear or later, as a time
+// a formula made is; a day of the year or an hour count would be a date
+// in 1900 and is refused at its cell. A date-formatted cell reads as the
+// date shown, however early. Serials: 45749.5 is 2025-04-02T12:00 and
+// 92.3958 is 1900-04-01T09:29:57 (1900 date system, from memory).
+func TestPlainNumberTimes(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	book := writeBook(t, dir, map[string][][]any{
+		"late":  {{"time", "stage (m)", "discharge (m3/s)"}, {45749.5, 1.2, 3.4}, {45750.5, 1.3, 3.9}},
+		"early": {{"time", "stage (m)", "discharge (m3/s)"}, {45749.5, 1.2, 3.4}, {92.3958, 1.3, 3.9}},
+	}, []string{"late", "early"})
+	g, err := ReadGaugings(book, "late")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := time.Date(2025, 4, 2, 12, 0, 0, 0, time.UTC); !g.Gaugings[0].Time.Equal(want) {
+		t.Errorf("serial 45749.5 read as %v, want %v", g.Gaugings[0].Time, want)
+	}
+	_, err = ReadGaugings(book, "early")
+	if !errors.Is(err, ErrPlainNumberTime) || !strings.Contains(err.Error(), "['early']!A3") || !strings.Contains(err.Error(), "1900-04-01T09:29:57") {
+		t.Errorf("serial 92.3958: %v, want ErrPlainNumberTime at A3", err)
+	}
+	_, err = ReadStageRecord(book, StageRecordOptions{Sheet: "early"})
+	if !errors.Is(err, ErrPlainNumberTime) {
+		t.Errorf("stage record, serial 92.3958: %v, want ErrPlainNumberTime", err)
+	}
+}
