@@ -23,7 +23,8 @@ const (
 	// overrides the quality's band in a fit.
 	ColGaugingUncertainty = "uncertainty"
 	// ColGaugingExclude (optional): any text other than blanks leaves the
-	// gauging out of the rating fit and is shown as the reason.
+	// gauging out of the rating fit and is shown as the reason, but for
+	// the words of no (see excludeReason).
 	ColGaugingExclude = "exclude"
 )
 
@@ -182,7 +183,7 @@ func (rd *gaugingReader) add(rec Record, col int, err error) {
 // be read (the other cells' errors are recorded all the same).
 func (rd *gaugingReader) row(rec Record) (gauged.Gauging, bool) {
 	t, c := rd.t, rd.cols
-	g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, c.note), Exclude: strings.TrimSpace(t.Cell(rec, c.exclude))}
+	g := gauged.Gauging{Source: where(t, rec.Row), Note: t.Cell(rec, c.note), Exclude: excludeReason(t.Cell(rec, c.exclude))}
 	okAll := rd.time(rec, &g)
 	var ok bool
 	g.Stage, ok = rd.number(rec, c.stage, "stage", MaxElevation)
@@ -255,4 +256,18 @@ func (rd *gaugingReader) uncertainty(rec Record, g *gauged.Gauging) {
 	case ok:
 		g.Uncertainty = u
 	}
+}
+
+// excludeReason is the reason an exclude cell gives for leaving a
+// gauging out, "" to keep it: a blank cell, or one saying no (no, n,
+// false, 0, none, any case; a spreadsheet makes FALSE typed in a cell a
+// boolean, which reads FALSE), keeps the gauging; any other text is the
+// reason.
+func excludeReason(cell string) string {
+	s := strings.TrimSpace(cell)
+	switch strings.ToLower(s) {
+	case "no", "n", "false", "0", "none":
+		return ""
+	}
+	return s
 }

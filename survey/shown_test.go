@@ -637,3 +637,22 @@ func TestPlainNumberTimes(t *testing.T) {
 		t.Errorf("stage record, serial 92.3958: %v, want ErrPlainNumberTime", err)
 	}
 }
+
+// An exclude cell saying no (FALSE, as a spreadsheet makes a typed false,
+// no, n, 0, none) keeps its gauging; any other text leaves it out with
+// that reason.
+func TestExcludeWordsOfNo(t *testing.T) {
+	t.Parallel()
+	text := "time,stage (m),discharge (m3/s),exclude\n" +
+		"2026-03-02T09:15,1.1,2.5,FALSE\n2026-03-03T09:15,1.2,2.9,no\n2026-03-04T09:15,1.3,3.2,0\n" +
+		"2026-03-05T09:15,1.4,3.6,\n2026-03-06T09:15,1.5,4.1, None \n2026-03-07T09:15,1.6,4.4,debris on the weir\n"
+	g, err := ParseGaugings(strings.NewReader(text), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []string{"", "", "", "", "", "debris on the weir"} {
+		if got := g.Gaugings[i].Exclude; got != want {
+			t.Errorf("row %d: exclude %q, want %q", i+2, got, want)
+		}
+	}
+}

@@ -409,7 +409,7 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
 			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + "); " +
 			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +
-			"exclude: any text leaves the gauging out of rating fits and is shown as the reason."},
+			"exclude: any text leaves the gauging out of rating fits and is shown as the reason; blank, no or FALSE keeps it."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
 		{"caution", rating.Caution},
 	}
