@@ -306,6 +306,9 @@ func zipSignature(r io.ReaderAt, size int64) error {
 	}
 	head = head[:n]
 	if bytes.HasPrefix(head, zipMagic) {
+		if openDocument(head) {
+			return ErrOpenDocument
+		}
 		return nil
 	}
 	if textLike(head) {

@@ -1,6 +1,8 @@
 package survey
 
 import (
+	"archive/zip"
+	"bytes"
 	"errors"
 	"fmt"
 	"os"
@@ -271,5 +273,35 @@ func TestJSONInput(t *testing.T) {
 	tab, err := ParseCSV(strings.NewReader("[m] station,elevation\n0,1\n"), "b.csv")
 	if err != nil || tab.Header[0] != "[m] station" {
 		t.Errorf("a header starting with a bracket: %v, %v", tab, err)
+	}
+}
+
+// An OpenDocument spreadsheet, under its own name or renamed .xlsx, is
+// named as one, not sent to rename it: its first entry, stored, is its
+// mimetype (OASIS OpenDocument 1.2, part 3, 3.3).
+func TestOpenDocumentRefused(t *testing.T) {
+	var buf bytes.Buffer
+	zw := zip.NewWriter(&buf)
+	w, err := zw.CreateHeader(&zip.FileHeader{Name: "mimetype", Method: zip.Store})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w.Write([]byte("application/vnd.oasis.opendocument.spreadsheet"))
+	if w, err = zw.Create("content.xml"); err != nil {
+		t.Fatal(err)
+	}
+	w.Write([]byte("<office:document-content/>"))
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	for _, name := range []string{"xs.ods", "xs.xlsx"} {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, buf.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := ReadTable(p, ""); !errors.Is(err, ErrOpenDocument) {
+			t.Errorf("%s: %v, want ErrOpenDocument", name, err)
+		}
 	}
 }

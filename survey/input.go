@@ -59,6 +59,7 @@ var (
 	ErrSeparatorHint   = errors.New("names a separator other than a comma on its first line: save it as comma-separated values")
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
 	ErrJSONInput       = errors.New("is JSON, not a table: give the CSV table (or the workbook) the report was written beside")
+	ErrOpenDocument    = errors.New("is an OpenDocument spreadsheet (.ods), which is not read: save it as an Excel workbook (.xlsx) or as CSV")
 )
 
 // ErrLimitValue is the cause of a limit variable (EnvMaxBytes, EnvMaxRows,
@@ -194,6 +195,8 @@ func sniffText(data []byte, name string) error {
 func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
+	case bytes.HasPrefix(head, zipMagic) && openDocument(head):
+		return fail(ErrOpenDocument)
 	case bytes.HasPrefix(head, zipMagic):
 		return fail(ErrWorkbookNamed)
 	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}), bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
@@ -207,6 +210,13 @@ func sniffKind(head []byte, name string) error {
 		return fail(ErrJSONInput)
 	}
 	return nil
+}
+
+// openDocument reports the head of a zip archive that is an OpenDocument
+// file: its first entry, stored, is the mimetype naming an OpenDocument
+// type (OASIS OpenDocument 1.2, part 3, 3.3).
+func openDocument(head []byte) bool {
+	return bytes.Contains(head[:min(len(head), 200)], []byte("application/vnd.oasis.opendocument"))
 }
 
 // jsonLike reports text that opens as a JSON object or array does: a
