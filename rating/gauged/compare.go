@@ -50,10 +50,10 @@ func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 			continue
 		}
 		if g.Stage < c.Bottom() {
-			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is below the section's lowest point (%g on the gauge): check --datum", g.label(), g.Stage, c.Bottom()))
+			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is below the section's lowest point (%s on the gauge): check --datum", g.label(), g.Stage, gh(c.Bottom())))
 		}
 		if g.Stage > c.Top() {
-			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is above the lower end of the section (%g on the gauge)", g.label(), g.Stage, c.Top()))
+			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is above the lower end of the section (%s on the gauge)", g.label(), g.Stage, gh(c.Top())))
 		}
 		cmp.Residuals[i] = residualOf(g, q, stageOrNaN(c.Stage))
 	}

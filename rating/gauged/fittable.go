@@ -184,8 +184,8 @@ func (t *FitTable) scaleAbove(f *Fit, c *rating.HydraulicCurve) (float64, error)
 	ct := c.Top()
 	if ct < f.HighStage {
 		t.Warnings = append(t.Warnings, fmt.Sprintf(
-			"the highest gauging (%g %s) is above the section's lower end (%g %s on the gauge): no extrapolation above it",
-			f.HighStage, u.Length(), ct, u.Length()))
+			"the highest gauging (%g %s) is above the section's lower end (%s %s on the gauge): no extrapolation above it",
+			f.HighStage, u.Length(), gh(ct), u.Length()))
 		return f.HighStage, nil
 	}
 	qh, err := c.Discharge(f.HighStage)
