@@ -3,10 +3,12 @@ package gauged_test
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/subdivide"
 )
 
 // Johnson's three-point method is exact for an exact power law: with
@@ -128,5 +130,26 @@ func TestGaugingOutside(t *testing.T) {
 		if got := tc.g.Outside(tc.d); got != tc.want {
 			t.Errorf("%s: Outside(%g) = %v, want %v", tc.name, tc.d, got, tc.want)
 		}
+	}
+}
+
+// A gauging above the section's lower end is warned of with that end's
+// gauge height as the gauge is read (4 decimals): a rectangle 3.1 m high
+// on a gauge whose zero is at 49.8 m has its top at 52.9 − 49.8 = 3.1 on
+// the gauge, which binary floating point makes 3.1000000000000014.
+func TestCompareWarningGaugeHeight(t *testing.T) {
+	c := built(t, "rectangle:width=5,height=3", 0.035, 0.001)
+	g, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 52.9, 0, 49.8, 5, 49.8, 5, 52.9), N: []float64{0.035, 0.035, 0.035}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c.Geometry, c.Datum = g, 49.8
+	cmp, err := gauged.Compare([]gauged.Gauging{{Stage: 3.5, Discharge: 40, Quality: rating.Good}}, c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := strings.Join(cmp.Warnings, "\n")
+	if !strings.Contains(w, "is above the lower end of the section (3.1 on the gauge)") {
+		t.Errorf("warnings %q", w)
 	}
 }
