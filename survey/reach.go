@@ -224,7 +224,27 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 			r.Warnings = append(r.Warnings, "section "+row.ID+": "+w)
 		}
 	}
+	if !r.Site.Known() {
+		r.Site = surveysSite(r.Surveys)
+	}
 	return r, nil
+}
+
+// surveysSite is the site of a reach table that names none: the site its
+// surveys name, when every survey naming a site names the same one (as
+// the sheets of one field workbook do); else nothing.
+func surveysSite(svs []Survey) rating.Site {
+	var site rating.Site
+	for _, sv := range svs {
+		switch {
+		case !sv.Site.Known():
+		case !site.Known():
+			site = sv.Site
+		case sv.Site.Name != site.Name:
+			return rating.Site{}
+		}
+	}
+	return rating.Site{Name: site.Name, ID: site.ID}
 }
 
 // ReachFromTable reads the rows of a slope-area reach table without

@@ -650,3 +650,37 @@ func TestReachResolveUnits(t *testing.T) {
 		})
 	}
 }
+
+// A reach table naming no site takes the site its surveys name, when they
+// all name one (as the sheets of one field workbook do); surveys naming
+// two sites give it none.
+func TestReachSiteFromSurveys(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, text string) {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	xs := "station,elevation,n\n0,3,0.035\n4,0,0.035\n8,3\n"
+	write("a.csv", "# site: Reedy Creek at Sawpit (invented)\n# surveyed: 2026-03-02\n"+xs)
+	write("b.csv", "# site: Reedy Creek at Sawpit (invented)\n"+xs)
+	write("c.csv", xs)
+	write("d.csv", "# site: Another Creek (invented)\n"+xs)
+	head := "section,survey,distance,ws_left,ws_right\n"
+	write("same.csv", head+"XS-1,a.csv,0,2,2\nXS-2,b.csv,100,1.9,1.9\nXS-3,c.csv,200,1.8,1.8\n")
+	write("two.csv", head+"XS-1,a.csv,0,2,2\nXS-2,d.csv,100,1.9,1.9\n")
+	r, err := ReadReach(filepath.Join(dir, "same.csv"), "", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Site != (rating.Site{Name: "Reedy Creek at Sawpit (invented)"}) {
+		t.Errorf("site %+v, want the surveys' name alone", r.Site)
+	}
+	r, err = ReadReach(filepath.Join(dir, "two.csv"), "", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Site.Known() {
+		t.Errorf("surveys of two sites give the reach %+v", r.Site)
+	}
+}
