@@ -350,7 +350,11 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 		return nil, err
 	}
 	if len(b.out.Stages.Time) == 0 {
-		return nil, &ParseError{File: b.file, Sheet: b.sheet, Row: b.headerRow, Err: ErrEmpty}
+		err := ErrEmpty
+		if b.out.Blank > 0 {
+			err = fmt.Errorf("%w: the stage of each of its %d row(s) with a time is blank", ErrEmpty, b.out.Blank)
+		}
+		return nil, &ParseError{File: b.file, Sheet: b.sheet, Row: b.headerRow, Err: err}
 	}
 	if n := b.out.Blank; n > 0 {
 		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %d row(s) with a time but no stage, read as missing readings", b.file, n))

@@ -88,7 +88,7 @@ func TestParseStageRecordErrors(t *testing.T) {
 		{"no stage column", "time,level\n2024-05-01,1\n", []string{"s.csv:1", "stage"}, ErrMissingColumn},
 		{"semicolons", "time;stage\n2024-05-01;1\n", []string{"s.csv:1"}, ErrSemicolon},
 		{"no rows", head + "# nothing\n", []string{"no data rows"}, ErrEmpty},
-		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows"}, ErrEmpty},
+		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows: the stage of each of its 1 row(s) with a time is blank"}, ErrEmpty},
 		{"bare quote", head + "2024-05-01,1\"2\n", []string{"s.csv:2:"}, csv.ErrBareQuote},
 		{"duplicate stage column", "time,stage,Stage (m)\n2024-05-01,1,2\n", []string{"s.csv:1:3", "the header names this column twice (also column 2)"}, ErrDuplicateColumn},
 		{"duplicate time column", "time,stage,time\n2024-05-01,1,2024-05-02\n", []string{"s.csv:1:3", "(also column 1)"}, ErrDuplicateColumn},
