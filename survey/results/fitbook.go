@@ -132,7 +132,14 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	// num styles a number with a format code (FormatSig3 chooses per
 	// value); undefined numbers leave the item out.
 	num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
-	add("site", r.Site, "")
+	if name := r.Provenance.Site.Name; name != "" {
+		add("site", name, "")
+		if r.Site != name {
+			add("section or gaugings", r.Site, "")
+		}
+	} else {
+		add("site", r.Site, "")
+	}
 	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
 	add("program", programName(r.Provenance), "")
 	add("site details", r.Provenance.Site.String(), "")

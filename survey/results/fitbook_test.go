@@ -155,6 +155,20 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 	if l := rows[len(rows)-1]; l[0] != "2" || len(l) > 2 && l[2] != "" {
 		t.Errorf("last table row %q", l)
 	}
+	// The summary's site is the site's name when one is known, and the
+	// report's own label (a section or the gaugings' file) follows it.
+	if items := summaryItems(t, f); items["site"] != "test|" {
+		t.Errorf("site %q, want the report's label when no site is known", items["site"])
+	}
+	rep.Provenance.Site = rating.Site{Name: "Tallow Creek at Mill Lane (invented)"}
+	buf.Reset()
+	if err := results.WriteFitWorkbook(&buf, rep); err != nil {
+		t.Fatal(err)
+	}
+	items := summaryItems(t, openWritten(t, &buf))
+	if items["site"] != "Tallow Creek at Mill Lane (invented)|" || items["section or gaugings"] != "test|" {
+		t.Errorf("site %q, section or gaugings %q", items["site"], items["section or gaugings"])
+	}
 }
 
 // A slope-area report without a Monte Carlo analysis or figures: no
