@@ -2,6 +2,7 @@ package plotting
 
 import (
 	"bytes"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -100,7 +101,10 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 		return Properties(w, PropertiesPlot{Site: in.Site, Section: t.Name, Units: t.Units,
 			Rows: PropertiesFromTable(t), Bankfull: bankfull - datum, HasBankfull: hasBankfull, Size: in.Size})
 	})
-	if err != nil {
+	switch {
+	case errors.Is(err, ErrNoData):
+		set.warnings = append(set.warnings, "no properties figure: the table has no area, top width or conveyance columns to draw")
+	case err != nil:
 		set.warnings = append(set.warnings, "no properties figure: "+err.Error())
 	}
 	return set.figs, set.warnings, nil

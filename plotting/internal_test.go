@@ -188,3 +188,25 @@ func TestTitleWithoutSite(t *testing.T) {
 		}
 	}
 }
+
+// A table of stage and discharge alone (a fitted rating) draws its rating
+// figure and says plainly why there is no properties figure.
+func TestNoPropertiesFigureSaid(t *testing.T) {
+	nan := math.NaN()
+	tab := rating.Table{Name: "fit", Units: rating.SI, Bottom: 0.5, Top: 2, Slope: nan}
+	for _, p := range [][2]float64{{0.5, 0}, {1, 2.5}, {1.5, 6}, {2, 11}} {
+		tab.Rows = append(tab.Rows, rating.Row{Stage: p[0], Discharge: p[1], Depth: nan, Area: nan, WettedPerimeter: nan, TopWidth: nan,
+			HydraulicRadius: nan, Conveyance: nan, MeanVelocity: nan, Alpha: nan, Froude: nan, HydraulicDepth: nan, Beta: nan, ShearStress: nan})
+	}
+	figs, warnings, err := DrawRating(RatingFigures{Base: "fit", Table: tab, ZeroFlow: nan})
+	if err != nil {
+		t.Fatal(err)
+	}
+	said := false
+	for _, w := range warnings {
+		said = said || w == "no properties figure: the table has no area, top width or conveyance columns to draw"
+	}
+	if len(figs) != 1 || !said {
+		t.Errorf("%d figures, warnings %q", len(figs), warnings)
+	}
+}

@@ -175,12 +175,12 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 }
 
 // ratingSection names the section of a rating table: its sheet's name, but
-// for a sheet named only "rating" (a results workbook's) the workbook's
-// name; a file's name otherwise; without the "-rating" and "-results"
+// for a sheet named only "rating" or "fitted rating" (a results
+// workbook's) the workbook's name; a file's name otherwise; without the "-rating" and "-results"
 // that rate's outputs add to the section's name.
 func ratingSection(t *Table) string {
 	name := sectionName(t)
-	if t.Sheet != "" && strings.EqualFold(t.Sheet, "rating") {
+	if t.Sheet != "" && (strings.EqualFold(t.Sheet, "rating") || strings.EqualFold(t.Sheet, "fitted rating")) {
 		base := filepath.Base(t.File)
 		name = strings.TrimSuffix(base, filepath.Ext(base))
 	}

@@ -256,6 +256,7 @@ func TestRatingSection(t *testing.T) {
 	for _, tc := range []struct{ file, sheet, want string }{
 		{"out/kus.xlsx", "rating", "kus"},
 		{"tallow-xs1-results.xlsx", "Rating", "tallow-xs1"},
+		{"lo/fit-res.xlsx", "fitted rating", "fit-res"},
 		{"tallow-xs1-rating.csv", "", "tallow-xs1"},
 		{"field.xlsx", "XS-2", "XS-2"},
 	} {
