@@ -101,15 +101,20 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 // kind.
 func (f *compareFlags) kinds(a, b string) (survey.TableKind, error) {
 	var ks [2]survey.TableKind
-	for i, in := range []struct{ path, sheet string }{{a, f.sheetA}, {b, f.sheetB}} {
+	for i, in := range []struct{ path, sheet, flag string }{{a, f.sheetA, "--sheet-a"}, {b, f.sheetB, "--sheet-b"}} {
 		t, err := survey.ReadTable(in.path, in.sheet)
 		if err != nil {
 			return 0, err
 		}
 		ks[i] = survey.KindOf(t)
 		if ks[i] != survey.KindRating && ks[i] != survey.KindSection {
-			return 0, fmt.Errorf("compare: %s is a %s: a rating has stage (or gauge_height) and discharge columns, a survey station and elevation columns",
-				in.path, ks[i])
+			where, hint := in.path, ""
+			if t.Sheet != "" {
+				where = survey.Position(in.path, t.Sheet)
+				hint = fmt.Sprintf("; name the sheet to compare with %s (sheets: %s)", in.flag, strings.Join(t.Sheets, ", "))
+			}
+			return 0, fmt.Errorf("compare: %s is a %s: a rating has stage (or gauge_height) and discharge columns, a survey station and elevation columns%s",
+				where, ks[i], hint)
 		}
 	}
 	if ks[0] != ks[1] {

@@ -214,7 +214,13 @@ func TestPlainMessages(t *testing.T) {
 		{"negative slope", []string{"rate", xs, "--slope", "-0.001"}, 2, "--slope -0.001: the friction slope must be positive"},
 		{"falling range", []string{"rate", xs, "--slope", "0.001", "--from", "2", "--to", "1"}, 2, "from 2 to 1: the range must rise"},
 		{"reach survey a folder", []string{"slopearea", reach}, 1, "xs2 is a folder: name the survey file in it"},
+		{"compare a results workbook's summary", []string{"compare", p("r.xlsx"), p("r.xlsx")}, 1, "r.xlsx['summary'] is a table that is neither a rating nor a survey"},
 	} {
+		if tc.args[0] == "compare" {
+			if _, errs, code := runCLI(t, "rate", xs, "--slope", "0.001", "-o", p("r.xlsx")); code != 0 {
+				t.Fatalf("rate: exit %d: %s", code, errs)
+			}
+		}
 		_, errs, code := runCLI(t, tc.args...)
 		if code != tc.code || !strings.Contains(errs, tc.want) || strings.Contains(errs, "step 1") {
 			t.Errorf("%s: exit %d, %q; want exit %d and %q", tc.name, code, errs, tc.code, tc.want)
