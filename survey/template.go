@@ -279,9 +279,9 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	coord := fmt.Sprintf("a number in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00", Width: 13}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
+		{Column: workbook.Column{Name: ColStation, Unit: L, Format: "0.00##", Width: 13}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance from the left pin, looking downstream; never decreasing"},
 		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
-		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
+		{Column: workbook.Column{Name: ColN, Format: "0.000#", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
 		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks(), false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
@@ -298,7 +298,7 @@ func elevationRule(L, what string) *workbook.Rule {
 // elevationColumn is the elevation column of a cross-section or coordinate
 // sheet in unit L, with its prompt.
 func elevationColumn(L, help string) workbook.InputColumn {
-	return workbook.InputColumn{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000", Width: 15},
+	return workbook.InputColumn{Column: workbook.Column{Name: ColElevation, Unit: L, Format: "0.000#", Width: 15},
 		Rule: elevationRule(L, "an elevation on the survey's datum"), Help: help}
 }
 
@@ -308,10 +308,10 @@ func coordinateSheetColumns(u rating.Units) []workbook.InputColumn {
 	L := u.Length()
 	grid := fmt.Sprintf("a grid coordinate in %s between %s and %s, with a decimal point", L, plainNumber(-MaxCoordinate), plainNumber(MaxCoordinate))
 	return []workbook.InputColumn{
-		{Column: workbook.Column{Name: ColEasting, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid easting of the point"},
-		{Column: workbook.Column{Name: ColNorthing, Unit: L, Format: "0.000", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid northing of the point"},
+		{Column: workbook.Column{Name: ColEasting, Unit: L, Format: "0.000#", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid easting of the point"},
+		{Column: workbook.Column{Name: ColNorthing, Unit: L, Format: "0.000#", Width: 15}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, grid), Help: "grid northing of the point"},
 		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
-		{Column: workbook.Column{Name: ColN, Format: "0.000", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
+		{Column: workbook.Column{Name: ColN, Format: "0.000#", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next point surveyed; blank repeats the value above"},
 		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedCoordinateMarks(), false, ""),
 			Help: "left pin and right pin: the end pins of the section line, left and right looking downstream (one each); bank: a main-channel limit (two per section)"},
@@ -343,13 +343,13 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ReachColSection, Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
 		{Column: workbook.Column{Name: ReachColSurvey, Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
-		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0", Width: 14}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
-		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the left bank"},
-		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the right bank"},
+		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0##", Width: 14}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
+		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000#", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the left bank"},
+		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000#", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the right bank"},
 		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: quality, Help: "how well the marks define the water surface"},
-		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0", Width: 16}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("left overbank")},
-		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0", Width: 19}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("main channel")},
-		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0", Width: 17}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("right overbank")},
+		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0##", Width: 16}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("left overbank")},
+		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0##", Width: 19}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("main channel")},
+		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0##", Width: 17}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("right overbank")},
 		{Column: workbook.Column{Name: ReachColStructure, Format: workbook.FormatText, Width: 12}, Rule: listRule(structureWords(), true, ErrStructureWord.Error()),
 			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: backwater refuses to compute flow through it and slopearea warns of it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
@@ -366,11 +366,11 @@ func gaugingColumns(u rating.Units) []workbook.InputColumn {
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ColGaugingTime, Format: workbook.FormatDateTime, Width: 18}, Rule: &workbook.Rule{Kind: workbook.Date, Lo: 1, Hi: templateTimeMax(), Title: "check the date",
 			Message: "a date and time such as 2026-03-14 09:30 (keep it if it is one)"}, Help: "date and time of the mid-point of the measurement"},
-		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000", Width: 12}, Rule: elevationRule(L, "a gauge height"), Help: "mean gauge height during the measurement"},
-		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000", Width: 17}, Rule: decimalRule(0, 1e8, true,
+		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000#", Width: 12}, Rule: elevationRule(L, "a gauge height"), Help: "mean gauge height during the measurement"},
+		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000#", Width: 17}, Rule: decimalRule(0, 1e8, true,
 			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
 		{Column: workbook.Column{Name: ColGaugingQuality, Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},
-		{Column: workbook.Column{Name: ColGaugingUncertainty, Unit: "%", Format: "0.0", Width: 15}, Rule: decimalRule(templateOpenEnd, MaxUncertaintyPercent-templateOpenEnd, true,
+		{Column: workbook.Column{Name: ColGaugingUncertainty, Unit: "%", Format: "0.0##", Width: 15}, Rule: decimalRule(templateOpenEnd, MaxUncertaintyPercent-templateOpenEnd, true,
 			fmt.Sprintf("a percentage above 0 and below %g", MaxUncertaintyPercent)),
 			Help: "expanded uncertainty of the discharge at the 95 % level, in percent; blank: the band of the quality grade"},
 		{Column: workbook.Column{Name: ColGaugingExclude, Format: workbook.FormatText, Width: 24}, Help: "any text leaves the gauging out of rating fits and is shown as the reason; blank keeps it"},

@@ -863,3 +863,36 @@ func TestTemplateStructureRule(t *testing.T) {
 		t.Errorf("the words offered do not all read back: %v", err)
 	}
 }
+
+// The template's number columns show every digit a crew types to the
+// precision read (station to 0.0001, n to 0.0001, elevations to 0.0001),
+// so a printed sheet shows what wetline reads: a format such as 0.000
+// would print n 0.0355 as 0.036.
+func TestTemplateShowsTypedDigits(t *testing.T) {
+	f, err := excelize.OpenFile(writeTemplate(t, survey.TemplateOptions{}))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	sheet := f.GetSheetList()[0]
+	rows, err := f.GetRows(sheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	header := rows[len(rows)-1]
+	for name, want := range map[string]string{"station": "0.00##", "n": "0.000#", "elevation": "0.000#"} {
+		i := slices.IndexFunc(header, func(h string) bool { return h == name || strings.HasPrefix(h, name+" ") })
+		if i < 0 {
+			t.Fatalf("%s: no %s column in %q", sheet, name, header)
+		}
+		col, _ := excelize.ColumnNumberToName(i + 1)
+		id, err := f.GetColStyle(sheet, col)
+		if err != nil {
+			t.Fatal(err)
+		}
+		st, err := f.GetStyle(id)
+		if err != nil || st.CustomNumFmt == nil || *st.CustomNumFmt != want {
+			t.Errorf("%s column %s: format %v, want %q (%v)", sheet, name, st.CustomNumFmt, want, err)
+		}
+	}
+}
