@@ -124,6 +124,14 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 			if len(h) == 1 && strings.Contains(h[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
+			if k, v, ok := metaRow(h); ok {
+				// A key row of a sheet's site block, saved as CSV.
+				if cs.meta == nil {
+					cs.meta = map[string]string{}
+				}
+				cs.meta[k] = v
+				continue
+			}
 			if err := b.setHeader(h, line, sizeHint); err != nil {
 				return nil, err
 			}

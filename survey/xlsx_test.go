@@ -159,3 +159,16 @@ func TestCommentRowsRoundTrip(t *testing.T) {
 		t.Errorf("CSV key rows: site %+v, %d points", sv.Site, len(sv.Section.Points))
 	}
 }
+
+// A stage record's site block saved as CSV key rows is read as its site,
+// as every other table's is.
+func TestStageRecordCSVKeyRows(t *testing.T) {
+	t.Parallel()
+	rec, err := ParseStageRecord(strings.NewReader("site,Hare Creek (invented),,\nsite id,HC-1\ntime,stage\n2024-05-01T00:00,0.5\n2024-05-01T00:15,0.52\n"), "s.csv", StageRecordOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rec.Site.Name != "Hare Creek (invented)" || rec.Site.ID != "HC-1" || rec.Stages.Len() != 2 {
+		t.Errorf("site %+v, %d readings", rec.Site, rec.Stages.Len())
+	}
+}
