@@ -80,7 +80,9 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 	if err != nil {
 		return Gaugings{}, err
 	}
-	return GaugingsFromTable(t)
+	g, err := GaugingsFromTable(t)
+	g.Warnings = append(t.Warnings, g.Warnings...)
+	return g, err
 }
 
 // GaugingsFromTable turns a table with columns time, stage (or

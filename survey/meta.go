@@ -101,10 +101,12 @@ func siteOf(m map[string]string) rating.Site {
 
 // commentRow reports a sheet row that is a comment line, as a CSV file's
 // '#' lines are (a CSV output opened in a spreadsheet keeps them as rows):
-// its first cell starts with '#'. line is the row's cells joined as the
-// CSV line they were split from, trailing blank cells dropped, for
+// its first cell starts with '#' and, below the header (belowHeader), no
+// other cell holds anything, so that a data row whose first cell is a
+// number such as #3 is read as data. line is the row's cells joined as
+// the CSV line they were split from, trailing blank cells dropped, for
 // addMetaLine.
-func commentRow(rec []string) (line string, ok bool) {
+func commentRow(rec []string, belowHeader bool) (line string, ok bool) {
 	if len(rec) == 0 || !strings.HasPrefix(strings.TrimSpace(rec[0]), "#") {
 		return "", false
 	}
@@ -112,7 +114,39 @@ func commentRow(rec []string) (line string, ok bool) {
 	for len(cells) > 0 && cells[len(cells)-1] == "" {
 		cells = cells[:len(cells)-1]
 	}
+	if belowHeader && len(cells) > 1 {
+		return "", false
+	}
 	return strings.Join(cells, ","), true
+}
+
+// commentedData returns the numbers of the lines of CSV text below its
+// header (on line headerRow) that start with '#', and so are comments,
+// but hold two or more values after the first field, as a data row does
+// ("#3,2024-05-01,1.2,3.4"): a '#' numbering a row hides it.
+func commentedData(data []byte, headerRow int) []int {
+	if !bytes.Contains(data, []byte("\n#")) {
+		return nil
+	}
+	var out []int
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	sc.Buffer(nil, 1<<20)
+	for n := 1; sc.Scan(); n++ {
+		line := sc.Text() // a comment begins at the line's first byte, as encoding/csv reads it
+		if n <= headerRow || !strings.HasPrefix(line, "#") {
+			continue
+		}
+		values := 0
+		for _, f := range strings.Split(line, ",")[1:] {
+			if strings.TrimSpace(f) != "" {
+				values++
+			}
+		}
+		if values >= 2 {
+			out = append(out, n)
+		}
+	}
+	return out
 }
 
 // metaRow reads a sheet row above the header as a key and its value: the

@@ -35,7 +35,9 @@ func ParseRatingCSV(r io.Reader, name string, u UnitChoice) (rating.Table, error
 	if err != nil {
 		return rating.Table{}, err
 	}
-	return RatingFromTable(t, u)
+	tab, err := RatingFromTable(t, u)
+	tab.Warnings = append(t.Warnings, tab.Warnings...)
+	return tab, err
 }
 
 // ErrRatingStageOrder is the cause of a rating table whose stages do not

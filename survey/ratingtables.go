@@ -119,7 +119,9 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 	if err != nil {
 		return RatingTables{}, err
 	}
-	return RatingTablesFromTable(t, opt)
+	rt, err := RatingTablesFromTable(t, opt)
+	rt.Warnings = append(t.Warnings, rt.Warnings...)
+	return rt, err
 }
 
 // RatingTablesFromTable reads one rating from a table with stage and

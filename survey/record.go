@@ -176,7 +176,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 			continue
 		}
 		f.shown(sheet, n, rec)
-		if line, ok := commentRow(rec); ok {
+		if line, ok := commentRow(rec, b.header != nil); ok {
 			if b.header == nil {
 				meta = addMetaLine(meta, line)
 			}

@@ -91,7 +91,9 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 	if err != nil {
 		return Survey{}, err
 	}
-	return SectionFromTable(t, opt)
+	sv, err := SectionFromTable(t, opt)
+	sv.Warnings = append(t.Warnings, sv.Warnings...)
+	return sv, err
 }
 
 // Plausible bounds of survey values: beyond them a value is a typing

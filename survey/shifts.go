@@ -75,7 +75,9 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 	if err != nil {
 		return ShiftDiagrams{}, err
 	}
-	return ShiftDiagramsFromTable(t, opt)
+	ds, err := ShiftDiagramsFromTable(t, opt)
+	ds.Warnings = append(t.Warnings, ds.Warnings...)
+	return ds, err
 }
 
 // ShiftDiagramsFromTable reads a table of ShiftColumns: time, stage and

@@ -506,6 +506,10 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	if b.t.Header == nil {
 		return nil, &ParseError{File: name, Err: errors.New("empty file: no header row")}
 	}
+	if rows := commentedData(data, b.t.HeaderRow); len(rows) > 0 {
+		b.t.Warnings = append(b.t.Warnings, fmt.Sprintf("%s: %d line(s) below the header start with '#' and hold values, as data rows do (the first, line %d), "+
+			"but '#' begins a comment line, so they were not read: write a row's number without '#' if they are data", name, len(rows), rows[0]))
+	}
 	return b.t, nil
 }
 
@@ -613,7 +617,7 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 			continue
 		}
 		f.shown(sheet, n, rec)
-		if line, ok := commentRow(rec); ok {
+		if line, ok := commentRow(rec, b.t.Header != nil); ok {
 			if b.t.Header == nil {
 				b.t.Meta = addMetaLine(b.t.Meta, line)
 			}
@@ -978,7 +982,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		if err != nil {
 			return false, err
 		}
-		_, comment := commentRow(rec)
+		_, comment := commentRow(rec, false)
 		if _, _, meta := metaRow(rec); blank(rec) || meta || comment {
 			continue
 		}

@@ -172,3 +172,30 @@ func TestStageRecordCSVKeyRows(t *testing.T) {
 		t.Errorf("site %+v, %d readings", rec.Site, rec.Stages.Len())
 	}
 }
+
+// Gaugings numbered #1, #2 in their first column: in a sheet, a row below
+// the header whose first cell starts with '#' but which holds other
+// values is data; in CSV such a line is a comment, as the format says,
+// and a warning names it.
+func TestNumberedRowsNotLost(t *testing.T) {
+	t.Parallel()
+	rows := [][]any{{"no.", "time", "stage", "discharge"},
+		{"#1", "2024-01-01T09:00", 1.0, 4.0}, {"#2", "2024-01-02T09:00", 1.2, 5.8}, {"# checked by JK"}, {"4", "2024-01-04T09:00", 1.4, 7.8}}
+	book := writeBook(t, t.TempDir(), map[string][][]any{"g": rows}, []string{"g"})
+	g, err := ReadGaugings(book, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(g.Gaugings) != 3 {
+		t.Errorf("sheet: %d gaugings, want the 3 rows with values", len(g.Gaugings))
+	}
+	text := "no.,time,stage,discharge\n#1,2024-01-01T09:00,1,4\n#2,2024-01-02T09:00,1.2,5.8\n# checked by JK, with a comma\n4,2024-01-04T09:00,1.4,7.8\n"
+	g, err = ParseGaugings(strings.NewReader(text), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := strings.Join(g.Warnings, "\n")
+	if len(g.Gaugings) != 1 || !strings.Contains(w, "g.csv: 2 line(s) below the header start with '#' and hold values, as data rows do (the first, line 2)") {
+		t.Errorf("CSV: %d gaugings, warnings %q", len(g.Gaugings), w)
+	}
+}
