@@ -152,9 +152,23 @@ func demoFolder(dir string) error {
 		return nil
 	}
 	if fi, err := os.Lstat(filepath.Join(dir, demoMark)); err == nil && fi.Mode().IsRegular() {
-		return nil
+		return demoLinks(dir)
 	}
 	return usagef("demo: -o %s holds files an earlier demo did not write (such as %s): give a new or empty folder", dir, ents[0].Name())
+}
+
+// demoLinks refuses an earlier demo's folder holding a link: the demo
+// would write its file through it, over whatever it points to.
+func demoLinks(dir string) error {
+	return filepath.WalkDir(dir, func(path string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return usagef("demo: -o %s: %v", dir, err)
+		}
+		if d.Type()&fs.ModeSymlink != 0 {
+			return usagef("demo: -o %s holds a link, %s, which the demo would write through: remove it or give a new folder", dir, path)
+		}
+		return nil
+	})
 }
 
 // path returns the path of a demo file.

@@ -309,4 +309,19 @@ func TestDemoFolder(t *testing.T) {
 	if data, _ := os.ReadFile(survey); string(data) != "my own survey\n" || len(ents) != 1 {
 		t.Errorf("the user's folder changed: %d entries, survey %q", len(ents), data)
 	}
+	// An earlier demo's folder with a link in it is refused: the demo would
+	// write through the link, over the file it points to.
+	marked := filepath.Join(t.TempDir(), "marked")
+	if err := os.Mkdir(marked, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(marked, demoMark), nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(survey, filepath.Join(marked, demoSurvey)); err != nil {
+		t.Skip("no symbolic links here:", err)
+	}
+	if err := demoFolder(marked); err == nil || !strings.Contains(err.Error(), "holds a link") {
+		t.Errorf("an earlier demo's folder with a link: %v", err)
+	}
 }
