@@ -148,7 +148,7 @@ func TestRateCalibrateStandardErrors(t *testing.T) {
 		c.Gaugings != 2 || c.ChannelOnly || c.Source != g {
 		t.Errorf("calibration %+v", c)
 	}
-	want := "every n multiplied by 1.2490 (standard error of the factor 4.0 %); the gaugings scatter 5.7 % about the calibrated rating (standard error of estimate)"
+	want := "every n multiplied by 1.2490 (standard error of the factor 4.00 %); the gaugings scatter 5.66 % about the calibrated rating (standard error of estimate)"
 	if !strings.Contains(strings.Join(doc.Warnings, "\n"), want) {
 		t.Errorf("warnings %q lack %q", doc.Warnings, want)
 	}

@@ -51,7 +51,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	u := c.Options.Units
 	ses := " (standard errors not estimated from one gauging)"
 	if !math.IsNaN(cal.StandardErrorPercent) {
-		ses = fmt.Sprintf(" (standard error of the factor %.1f %%); the gaugings scatter %.1f %% about the calibrated rating (standard error of estimate)",
+		ses = fmt.Sprintf(" (standard error of the factor %.2f %%); the gaugings scatter %.2f %% about the calibrated rating (standard error of estimate)",
 			cal.FactorStandardErrorPercent, cal.StandardErrorPercent)
 	}
 	plural := "s"
