@@ -668,7 +668,7 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 
 // writeGaugingRows writes every gauging with its departures.
 func writeGaugingRows(p printer, r *gauged.Report) {
-	p("\nGaugings (U: uncertainty at 95 %%; departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its quality band; x left out of the fit):\n")
+	p("\nGaugings (U: uncertainty at 95 %%; departure = 100·(measured − curve)/curve; shift = what to add to the gauge height for the curve to pass through it; * outside its band (U; a poor gauging's is open); x left out of the fit):\n")
 	p("  %-25s %9s %10s %-9s %5s", "time", "stage", "discharge", "quality", "U %")
 	if r.Fit != nil {
 		p(" %10s %8s %8s", "fitted", "dep. %", "shift")

@@ -510,7 +510,7 @@ func joinInputs(in []string) string {
 // writeRecordGaugingsText writes the gaugings set against the computed
 // record (the shifted rating at their times).
 func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.ShiftCheck) {
-	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's quality band):\n")
+	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's band, its uncertainty or else its quality's):\n")
 	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %8s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift used")
 	out := 0
 	for _, g := range c.Gaugings {

@@ -210,7 +210,7 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	ps, ss := shiftInfoOf(c)
 	writeHistoryText(bw, ps, ss, z, u)
 	fmt.Fprintf(bw, "\nGaugings (departure = 100·(measured − rated)/rated on the base rating; shift = what to add to the gauge height for the rating to pass through the gauging;\n")
-	fmt.Fprintf(bw, "applied = the shift the diagrams give there; residual = shift − applied; * outside the gauging's quality band):\n")
+	fmt.Fprintf(bw, "applied = the shift the diagrams give there; residual = shift − applied; * outside the gauging's band, its uncertainty or else its quality's):\n")
 	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %3s %10s %7s %8s %8s %8s %8s %s\n", "time", "stage", "discharge", "quality", "per", "rated", "dep. %", "shift", "applied", "residual", "shifted%", "flags")
 	for _, g := range c.Gaugings {
 		period := "-"
