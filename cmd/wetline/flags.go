@@ -39,7 +39,19 @@ func newFlags(name, usage string) *flagSet {
 // wraps parse errors as usage errors, and refuses a number flag given a
 // value that is not finite (NaN, Inf).
 func (fs *flagSet) parse(e *env, args []string) error {
-	if err := fs.Parse(args); err != nil {
+	seen := map[string]bool{}
+	err := fs.ParseAll(args, func(f *pflag.Flag, value string) error {
+		if seen[f.Name] && !repeatable(f) {
+			name := "--" + f.Name
+			if f.Shorthand != "" {
+				name = "-" + f.Shorthand + " (--" + f.Name + ")"
+			}
+			return fmt.Errorf("%s is given twice: give it once (a later one would replace the first)", name)
+		}
+		seen[f.Name] = true
+		return fs.Set(f.Name, value)
+	})
+	if err != nil {
 		if errors.Is(err, pflag.ErrHelp) {
 			return fs.help(e.stdout)
 		}
@@ -64,6 +76,17 @@ func (fs *flagSet) parse(e *env, args []string) error {
 		return err
 	}
 	return fs.distinctOutputs()
+}
+
+// repeatable reports a flag that may be given more than once: a list
+// that each use adds to (--rating FILE@TIME ...), or a switch. Any other
+// flag given twice would keep only its last value, so it is refused.
+func repeatable(f *pflag.Flag) bool {
+	switch f.Value.Type() {
+	case "stringArray", "bool":
+		return true
+	}
+	return false
 }
 
 // inputKey is the flag annotation marking a flag that names an input file.

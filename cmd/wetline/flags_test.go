@@ -214,6 +214,9 @@ func TestPlainMessages(t *testing.T) {
 		{"negative slope", []string{"rate", xs, "--slope", "-0.001"}, 2, "--slope -0.001: the friction slope must be positive"},
 		{"falling range", []string{"rate", xs, "--slope", "0.001", "--from", "2", "--to", "1"}, 2, "from 2 to 1: the range must rise"},
 		{"reach survey a folder", []string{"slopearea", reach}, 1, "xs2 is a folder: name the survey file in it"},
+		{"a flag given twice", []string{"fit", xs, "--sheet", "a", "--sheet", "b"}, 2, "fit: --sheet is given twice: give it once"},
+		{"a list flag given twice", []string{"rate", xs, "--slope", "0.001", "--stages", "1,2", "--stages", "3"}, 2, "--stages is given twice"},
+		{"-o given twice", []string{"rate", xs, "--slope", "0.001", "-o", p("a.csv"), "--output", p("b.csv")}, 2, "-o (--output) is given twice"},
 		{"compare a results workbook's summary", []string{"compare", p("r.xlsx"), p("r.xlsx")}, 1, "r.xlsx['summary'] is a table that is neither a rating nor a survey"},
 	} {
 		if tc.args[0] == "compare" {
