@@ -69,9 +69,7 @@ func ReadGaugings(path, sheet string) (Gaugings, error) {
 	if err != nil {
 		return Gaugings{}, err
 	}
-	g, err := GaugingsFromTable(t)
-	g.Warnings = append(t.Warnings, g.Warnings...)
-	return g, err
+	return GaugingsFromTable(t)
 }
 
 // ParseGaugings reads gaugings from CSV text; name is used in messages.
@@ -80,9 +78,7 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 	if err != nil {
 		return Gaugings{}, err
 	}
-	g, err := GaugingsFromTable(t)
-	g.Warnings = append(t.Warnings, g.Warnings...)
-	return g, err
+	return GaugingsFromTable(t)
 }
 
 // GaugingsFromTable turns a table with columns time, stage (or
@@ -111,7 +107,7 @@ func GaugingsFromTable(t *Table) (Gaugings, error) {
 // gaugingsFromTable is GaugingsFromTable, a time written without an offset
 // (or a workbook date serial) taken at UTC plus off seconds.
 func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
-	gs := Gaugings{File: t.File, Sheet: t.Sheet}
+	gs := Gaugings{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	cols, err := gaugingColsOf(t)
 	if err != nil {
 		return gs, err

@@ -494,7 +494,5 @@ func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) 
 	if err != nil {
 		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
 	}
-	g, err := gaugingsFromTable(t, off)
-	g.Warnings = append(t.Warnings, g.Warnings...)
-	return g, err
+	return gaugingsFromTable(t, off)
 }

@@ -23,9 +23,7 @@ func ReadRatingCSV(path, sheet string, u UnitChoice) (rating.Table, error) {
 	if err != nil {
 		return rating.Table{}, err
 	}
-	tab, err := RatingFromTable(t, u)
-	tab.Warnings = append(t.Warnings, tab.Warnings...)
-	return tab, err
+	return RatingFromTable(t, u)
 }
 
 // ParseRatingCSV reads a rating table from CSV text; name is used in
@@ -35,9 +33,7 @@ func ParseRatingCSV(r io.Reader, name string, u UnitChoice) (rating.Table, error
 	if err != nil {
 		return rating.Table{}, err
 	}
-	tab, err := RatingFromTable(t, u)
-	tab.Warnings = append(t.Warnings, tab.Warnings...)
-	return tab, err
+	return RatingFromTable(t, u)
 }
 
 // ErrRatingStageOrder is the cause of a rating table whose stages do not
@@ -86,7 +82,7 @@ const (
 // KindFitted for a table with a rating fit's columns, else "". Every bad
 // cell is reported, each naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
-	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN()}
+	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
 	if err != nil {
 		return out, err

@@ -107,9 +107,7 @@ func ReadRatingTables(path string, opt RatingTableOptions) (RatingTables, error)
 	if err != nil {
 		return RatingTables{}, err
 	}
-	rt, err := RatingTablesFromTable(t, opt)
-	rt.Warnings = append(t.Warnings, rt.Warnings...)
-	return rt, err
+	return RatingTablesFromTable(t, opt)
 }
 
 // ParseRatingTables reads rating tables from CSV text; name is used in
@@ -119,9 +117,7 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 	if err != nil {
 		return RatingTables{}, err
 	}
-	rt, err := RatingTablesFromTable(t, opt)
-	rt.Warnings = append(t.Warnings, rt.Warnings...)
-	return rt, err
+	return RatingTablesFromTable(t, opt)
 }
 
 // RatingTablesFromTable reads one rating from a table with stage and
@@ -138,7 +134,7 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // unit (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an
 // error at the column. Every bad cell is reported with its position.
 func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, error) {
-	out := RatingTables{File: t.File, Sheet: t.Sheet}
+	out := RatingTables{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	off, err := checkOffset(opt.UTCOffset)
 	if err != nil {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}

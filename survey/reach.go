@@ -183,7 +183,6 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	if err != nil {
 		return nil, err
 	}
-	r.Warnings = append(t.Warnings, r.Warnings...)
 	var errs errorList
 	for i := range r.Rows {
 		row := &r.Rows[i]
@@ -259,7 +258,7 @@ func ReachFromTable(t *Table) (*Reach, error) {
 // mark beyond ±MaxElevation is refused as implausible (ErrImplausible).
 // Flow lengths given at the last section are not used (a warning says so).
 func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
-	r := &Reach{File: t.File, Sheet: t.Sheet, t: t, cols: map[string]int{}}
+	r := &Reach{File: t.File, Sheet: t.Sheet, t: t, cols: map[string]int{}, Warnings: t.ownWarnings()}
 	required := ReachColumns()[:5]
 	if opt.MarksOptional {
 		required = ReachColumns()[:3]
@@ -729,9 +728,7 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 	if err != nil {
 		return BoundaryRating{}, err
 	}
-	br, err := BoundaryRatingFromTable(t)
-	br.Warnings = append(t.Warnings, br.Warnings...)
-	return br, err
+	return BoundaryRatingFromTable(t)
 }
 
 // BoundaryRatingFromTable reads the stage (or gauge_height) and
@@ -742,7 +739,7 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 // is kept; from there on stage and discharge must both increase. Every bad
 // cell is reported, each naming its row and column.
 func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
-	out := BoundaryRating{File: t.File, Sheet: t.Sheet}
+	out := BoundaryRating{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
 	if err != nil {
 		return out, err

@@ -80,9 +80,7 @@ func ReadSection(path, sheet string, opt SectionOptions) (Survey, error) {
 	if err != nil {
 		return Survey{}, err
 	}
-	sv, err := SectionFromTable(t, opt)
-	sv.Warnings = append(t.Warnings, sv.Warnings...)
-	return sv, err
+	return SectionFromTable(t, opt)
 }
 
 // ParseSection reads a survey from CSV text; name is used in messages.
@@ -91,9 +89,7 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 	if err != nil {
 		return Survey{}, err
 	}
-	sv, err := SectionFromTable(t, opt)
-	sv.Warnings = append(t.Warnings, sv.Warnings...)
-	return sv, err
+	return SectionFromTable(t, opt)
 }
 
 // Plausible bounds of survey values: beyond them a value is a typing
@@ -182,7 +178,7 @@ type sectionReader struct {
 
 // newSectionReader finds the columns and the units of a survey table.
 func newSectionReader(t *Table) (*sectionReader, error) {
-	r := &sectionReader{t: t, sv: Survey{File: t.File, Sheet: t.Sheet, Site: t.Site()}}
+	r := &sectionReader{t: t, sv: Survey{File: t.File, Sheet: t.Sheet, Site: t.Site(), Warnings: t.ownWarnings()}}
 	r.sv.Section.Name = sectionName(t)
 	var err error
 	r.cs, r.cx, r.cy = t.Column(ColStation), -1, -1

@@ -63,9 +63,7 @@ func ReadShiftDiagrams(path string, opt ShiftTableOptions) (ShiftDiagrams, error
 	if err != nil {
 		return ShiftDiagrams{}, err
 	}
-	ds, err := ShiftDiagramsFromTable(t, opt)
-	ds.Warnings = append(t.Warnings, ds.Warnings...)
-	return ds, err
+	return ShiftDiagramsFromTable(t, opt)
 }
 
 // ParseShiftDiagrams reads shift diagrams from CSV text; name is used in
@@ -75,9 +73,7 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 	if err != nil {
 		return ShiftDiagrams{}, err
 	}
-	ds, err := ShiftDiagramsFromTable(t, opt)
-	ds.Warnings = append(t.Warnings, ds.Warnings...)
-	return ds, err
+	return ShiftDiagramsFromTable(t, opt)
 }
 
 // ShiftDiagramsFromTable reads a table of ShiftColumns: time, stage and
@@ -96,7 +92,7 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an error
 // naming the column.
 func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, error) {
-	out := ShiftDiagrams{File: t.File, Sheet: t.Sheet}
+	out := ShiftDiagrams{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	off, err := checkOffset(opt.UTCOffset)
 	if err != nil {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}

@@ -9,6 +9,7 @@ import (
 	"math"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -713,6 +714,13 @@ func (t *Table) Require(names ...string) (int, error) {
 			Err: fmt.Errorf("both %s and %s: %w", echo(t.Header[first]), echo(t.Header[second]), ErrAliasColumns)}
 	}
 	return i, nil
+}
+
+// ownWarnings returns a copy of the table's warnings, to begin the
+// warnings of what is read from it: every reader of a table carries them
+// (a hidden sheet named, '#' lines holding values), however it was read.
+func (t *Table) ownWarnings() []string {
+	return slices.Clone(t.Warnings)
 }
 
 // Optional returns the index of an optional column, known by any of
