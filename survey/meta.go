@@ -149,6 +149,34 @@ func commentedData(data []byte, headerRow int) []int {
 	return out
 }
 
+// siteRow takes a row that belongs to no table: in a sheet (inSheet) a
+// comment row (commentRow), and above the header (belowHeader false) a
+// key row of the site block (metaRow). What the row says of the site is
+// added to meta (made when nil), which is returned with whether the row
+// was taken. Every table reader sets its rows aside here.
+func siteRow(meta map[string]string, rec []string, inSheet, belowHeader bool) (map[string]string, bool) {
+	if inSheet {
+		if line, ok := commentRow(rec, belowHeader); ok {
+			if !belowHeader {
+				meta = addMetaLine(meta, line)
+			}
+			return meta, true
+		}
+	}
+	if belowHeader {
+		return meta, false
+	}
+	k, v, ok := metaRow(rec)
+	if !ok {
+		return meta, false
+	}
+	if meta == nil {
+		meta = map[string]string{}
+	}
+	meta[k] = v
+	return meta, true
+}
+
 // metaRow reads a sheet row above the header as a key and its value: the
 // first cell one of MetaKeys (a trailing colon allowed), the second its
 // value, nothing after.

@@ -124,12 +124,8 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 			if len(h) == 1 && strings.Contains(h[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
-			if k, v, ok := metaRow(h); ok {
-				// A key row of a sheet's site block, saved as CSV.
-				if cs.meta == nil {
-					cs.meta = map[string]string{}
-				}
-				cs.meta[k] = v
+			if m, ok := siteRow(cs.meta, h, false, false); ok { // a site block's key row saved as CSV
+				cs.meta = m
 				continue
 			}
 			if err := b.setHeader(h, line, sizeHint); err != nil {
@@ -176,20 +172,11 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 			continue
 		}
 		f.shown(sheet, n, rec)
-		if line, ok := commentRow(rec, b.header != nil); ok {
-			if b.header == nil {
-				meta = addMetaLine(meta, line)
-			}
+		if m, ok := siteRow(meta, rec, true, b.header != nil); ok {
+			meta = m
 			continue
 		}
 		if b.header == nil {
-			if k, v, ok := metaRow(rec); ok {
-				if meta == nil {
-					meta = map[string]string{}
-				}
-				meta[k] = v
-				continue
-			}
 			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
 				return nil, err
 			}

@@ -487,12 +487,8 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 			if len(rec) == 1 && strings.Contains(rec[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
-			if k, v, ok := metaRow(rec); ok {
-				// A key row of a sheet's site block, saved as CSV.
-				if b.t.Meta == nil {
-					b.t.Meta = map[string]string{}
-				}
-				b.t.Meta[k] = v
+			if m, ok := siteRow(b.t.Meta, rec, false, false); ok { // a site block's key row saved as CSV
+				b.t.Meta = m
 				continue
 			}
 			if err := b.header(rec, line); err != nil {
@@ -618,20 +614,11 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 			continue
 		}
 		f.shown(sheet, n, rec)
-		if line, ok := commentRow(rec, b.t.Header != nil); ok {
-			if b.t.Header == nil {
-				b.t.Meta = addMetaLine(b.t.Meta, line)
-			}
+		if m, ok := siteRow(b.t.Meta, rec, true, b.t.Header != nil); ok {
+			b.t.Meta = m
 			continue
 		}
 		if b.t.Header == nil {
-			if k, v, ok := metaRow(rec); ok {
-				if b.t.Meta == nil {
-					b.t.Meta = map[string]string{}
-				}
-				b.t.Meta[k] = v
-				continue
-			}
 			if err := b.header(rec, n); err != nil {
 				return nil, err
 			}
@@ -990,8 +977,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		if err != nil {
 			return false, err
 		}
-		_, comment := commentRow(rec, false)
-		if _, _, meta := metaRow(rec); blank(rec) || meta || comment {
+		if _, taken := siteRow(nil, rec, true, false); blank(rec) || taken {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}
