@@ -222,14 +222,13 @@ type sheetScanner struct {
 	styles map[int64]cellMark   // markedStyles', read with the first sheet
 	styled bool                 // styles has been read
 	parts  map[string]*zip.File // sheet name to its part, found with the first sheet
-	every  map[string]sheetScan // scanEverySheet's, when parts could not be found
 	done   map[string]sheetScan // the sheets scanned, by name
 }
 
 // scan returns what the scan of sheet found (see scanSheet), scanning it
-// the first time. When the workbook's relationships do not name the
-// sheets' parts, every sheet is scanned as checkWorkbookZip does. A sheet
-// with no part of its own has nothing to tell.
+// the first time. A sheet with no part of its own has nothing to tell;
+// when the workbook's relationships do not name the sheets' parts, none
+// has (see findParts).
 func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 	if sc, ok := s.done[sheet]; ok {
 		return sc, nil
@@ -237,15 +236,13 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 	if !s.styled {
 		s.styles, s.styled = markedStyles(s.zr), true
 	}
-	if s.parts == nil && s.every == nil {
+	if s.parts == nil {
 		if err := s.findParts(); err != nil {
 			return sheetScan{}, err
 		}
 	}
 	var sc sheetScan
-	if s.every != nil {
-		sc = s.every[sheet]
-	} else if f := s.parts[sheet]; f != nil {
+	if f := s.parts[sheet]; f != nil {
 		var err error
 		if sc, err = scanSheet(f, s.styles); err != nil {
 			return sheetScan{}, err
@@ -258,19 +255,17 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 	return sc, nil
 }
 
-// findParts finds the part of every sheet, or when the relationships do
-// not tell them, scans every sheet at once.
+// findParts finds the part of every sheet. When the relationships do not
+// tell them, every worksheet part is scanned as scanEverySheet does, which
+// refuses the workbook if any holds something to tell (it could not be
+// placed), so no sheet is left with a part to scan.
 func (s *sheetScanner) findParts() error {
 	names, err := sheetParts(s.zr)
 	if err != nil {
-		every, err := scanEverySheet(s.zr, s.styles)
-		if err != nil {
+		if _, err := scanEverySheet(s.zr, s.styles); err != nil {
 			return err
 		}
-		s.every = every
-		if s.every == nil {
-			s.every = map[string]sheetScan{}
-		}
+		s.parts = map[string]*zip.File{}
 		return nil
 	}
 	s.parts = partFiles(s.zr, names)
