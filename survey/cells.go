@@ -689,45 +689,12 @@ func markedStyles(zr *zip.Reader) map[int64]cellMark {
 }
 
 // dateFormat reports whether a number format code shows a number as a
-// date or a time of day: its first section holds one of the letters y,
-// m, d, h or s (any case) outside quoted text, escaped characters,
-// spacing and fill characters (_x, *x) and brackets other than the
-// elapsed-time brackets [h], [m] and [s]. "General", number, currency
+// date or a time of day: its first section (see formatSection) holds one
+// of the codes y, m, d, h or s, in any case. "General", number, currency
 // and scientific formats hold none: a format's literal letters are quoted
 // or escaped, and G, e, n, r, a, l and E are not among the five.
 func dateFormat(code string) bool {
-	quoted := false
-	for i := 0; i < len(code); i++ {
-		c := code[i]
-		switch {
-		case quoted:
-			if c == '"' {
-				quoted = false
-			}
-		case c == '"':
-			quoted = true
-		case c == '\\' || c == '_' || c == '*':
-			i++
-		case c == ';':
-			return false
-		case c == '[':
-			j := strings.IndexByte(code[i:], ']')
-			if j < 0 {
-				return false
-			}
-			inner := strings.Trim(strings.ToLower(code[i+1:i+j]), "hms")
-			if inner == "" && j > 1 {
-				return true // [h], [mm], [ss]: elapsed time
-			}
-			i += j
-		default:
-			switch c | 0x20 {
-			case 'y', 'm', 'd', 'h', 's':
-				return true
-			}
-		}
-	}
-	return false
+	return strings.ContainsAny(strings.ToLower(formatSection(code)), "ymdhs")
 }
 
 // stylesPart returns the name of a workbook's styles part, as the
@@ -753,31 +720,53 @@ func stylesPart(zr *zip.Reader) string {
 }
 
 // percentFormat reports whether a number format code shows a number as a
-// percent: its first section (the one for positive numbers) ends in a
-// percent sign that is neither quoted ("%") nor escaped (\%), spaces and
-// quoted text after it aside.
+// percent: its first section (see formatSection) ends in a percent sign,
+// one neither quoted ("%") nor escaped (\%).
 func percentFormat(code string) bool {
-	last := byte(0)
+	return strings.HasSuffix(formatSection(code), "%")
+}
+
+// formatSection returns the codes of the first section of a number format
+// (the one for positive numbers, up to the first unquoted ';'): quoted
+// text and spaces are dropped, an escaped character stands as a zero byte
+// (a literal, never a code), a spacing or fill character (_x, *x) is
+// dropped with the character after it, and a bracket ([Red], [$-409]) is
+// dropped, but for an elapsed time ([h], [mm], [ss]), which stands as its
+// letters.
+//
+// References:
+//
+//	ECMA-376, Office Open XML File Formats, 5th ed. (2016), Part 1,
+//	18.8.31 numFmts (the syntax of number format codes; from memory).
+func formatSection(code string) string {
+	var b strings.Builder
 	quoted := false
 	for i := 0; i < len(code); i++ {
-		switch c := code[i]; {
+		c := code[i]
+		switch {
 		case quoted:
-			if c == '"' {
-				quoted = false
-			}
+			quoted = c != '"'
 		case c == '"':
 			quoted = true
 		case c == '\\':
+			b.WriteByte(0)
 			i++
-			last = 0
-		case c == ';':
-			return last == '%'
 		case c == '_' || c == '*':
-			i++ // a space the width of, or a fill of, the next character
-		case c == ' ':
-		default:
-			last = c
+			i++
+		case c == ';':
+			return b.String()
+		case c == '[':
+			j := strings.IndexByte(code[i:], ']')
+			if j < 0 {
+				return b.String()
+			}
+			if inner := code[i+1 : i+j]; inner != "" && strings.Trim(strings.ToLower(inner), "hms") == "" {
+				b.WriteString(inner)
+			}
+			i += j
+		case c != ' ':
+			b.WriteByte(c)
 		}
 	}
-	return last == '%'
+	return b.String()
 }

@@ -169,7 +169,7 @@ func TestPercentShown(t *testing.T) {
 func TestPercentFormat(t *testing.T) {
 	t.Parallel()
 	for code, want := range map[string]bool{
-		"0%": true, "0.00%": true, "0.0 %": true, "#,##0%;[Red]-#,##0%": true, `0%" of Q"`: true,
+		"0%": true, "0.00%": true, "0.0 %": true, "0.00%_)": true, "#,##0%;[Red]-#,##0%": true, `0%" of Q"`: true,
 		"0.00": false, `0"%"`: false, `0\%`: false, "@": false, "": false, "0;0%": false,
 	} {
 		if got := percentFormat(code); got != want {
