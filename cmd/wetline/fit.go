@@ -526,37 +526,15 @@ func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Opti
 // such time.
 func excludesMatch(path string, gs []gauged.Gauging, opt gauged.Options) error {
 	var errs []error
-	for _, t := range opt.Controls.Selection.Exclude {
-		var nearest time.Time
-		found := false
-		for _, g := range gs {
-			if g.Time.Equal(t) {
-				found = true
-				break
-			}
-			if !g.Time.IsZero() && (nearest.IsZero() || absDuration(g.Time.Sub(t)) < absDuration(nearest.Sub(t))) {
-				nearest = g.Time
-			}
-		}
-		if found {
-			continue
-		}
+	for _, m := range opt.Controls.Selection.Unmatched(gs) {
 		near := "none of them has a time"
-		if !nearest.IsZero() {
-			near = "the nearest is at " + gauged.TimeText(nearest, opt.UTCOffset)
+		if !m.Nearest.IsZero() {
+			near = "the nearest is at " + gauged.TimeText(m.Nearest, opt.UTCOffset)
 		}
 		errs = append(errs, fmt.Errorf("fit: --exclude %s: no gauging of %s is at that time (%s): check the time against the file",
-			gauged.TimeText(t, opt.UTCOffset), path, near))
+			gauged.TimeText(m.Time, opt.UTCOffset), path, near))
 	}
 	return errors.Join(errs...)
-}
-
-// absDuration is the length of d, whatever its sign.
-func absDuration(d time.Duration) time.Duration {
-	if d < 0 {
-		return -d
-	}
-	return d
 }
 
 // belowZeroFlow words a gauge height of zero flow from --zero-flow that

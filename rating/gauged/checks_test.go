@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 	"testing"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -151,5 +152,18 @@ func TestCompareWarningGaugeHeight(t *testing.T) {
 	w := strings.Join(cmp.Warnings, "\n")
 	if !strings.Contains(w, "is above the lower end of the section (3.1 on the gauge)") {
 		t.Errorf("warnings %q", w)
+	}
+}
+
+// Unmatched names the times to exclude that are no gauging's, each with
+// the nearest gauging's time; a time written at another offset that is
+// the same instant matches.
+func TestSelectionUnmatched(t *testing.T) {
+	at := func(h int) time.Time { return time.Date(2024, 5, 1, h, 0, 0, 0, time.UTC) }
+	gs := []gauged.Gauging{{Time: at(8)}, {Time: at(12)}}
+	sel := gauged.Selection{Exclude: []time.Time{at(11), at(8).In(time.FixedZone("", 10*3600)), at(1)}}
+	got := sel.Unmatched(gs)
+	if len(got) != 2 || !got[0].Time.Equal(at(11)) || !got[0].Nearest.Equal(at(12)) || !got[1].Time.Equal(at(1)) || !got[1].Nearest.Equal(at(8)) {
+		t.Errorf("unmatched %+v", got)
 	}
 }

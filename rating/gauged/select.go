@@ -97,6 +97,44 @@ type data struct {
 // n is the number of gaugings used.
 func (d *data) n() int { return len(d.h) }
 
+// ExcludeMiss is a time of Selection.Exclude that is no gauging's, with
+// the time of the gauging nearest it (the zero time when no gauging has
+// one).
+type ExcludeMiss struct {
+	Time, Nearest time.Time
+}
+
+// Unmatched returns the times of s.Exclude that are no gauging's of gs
+// (the same instant, whatever offset each is written with), in the order
+// given, each with the nearest gauging's time: most likely mistyped.
+func (s Selection) Unmatched(gs []Gauging) []ExcludeMiss {
+	var out []ExcludeMiss
+	for _, t := range s.Exclude {
+		m, found := ExcludeMiss{Time: t}, false
+		for _, g := range gs {
+			if g.Time.Equal(t) {
+				found = true
+				break
+			}
+			if !g.Time.IsZero() && (m.Nearest.IsZero() || absDuration(g.Time.Sub(t)) < absDuration(m.Nearest.Sub(t))) {
+				m.Nearest = g.Time
+			}
+		}
+		if !found {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
+// absDuration is the length of d, whatever its sign.
+func absDuration(d time.Duration) time.Duration {
+	if d < 0 {
+		return -d
+	}
+	return d
+}
+
 // selectGaugings checks every gauging, applies the selection and returns
 // the data of the fit, the reason each gauging is left out ("" when used)
 // and warnings (times listed that match no gauging).
@@ -122,14 +160,8 @@ func selectGaugings(gs []Gauging, sel Selection) (*data, []string, []string, err
 		return nil, nil, nil, errors.Join(errs...)
 	}
 	var warn []string
-	for _, t := range sel.Exclude {
-		hit := false
-		for _, g := range gs {
-			hit = hit || g.Time.Equal(t)
-		}
-		if !hit {
-			warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", TimeText(t, sel.UTCOffset)))
-		}
+	for _, m := range sel.Unmatched(gs) {
+		warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", TimeText(m.Time, sel.UTCOffset)))
 	}
 	sort.SliceStable(use, func(a, b int) bool { return use[a].h < use[b].h })
 	d := &data{}
