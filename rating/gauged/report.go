@@ -195,13 +195,10 @@ func (g Gauging) UncertaintyPercent() float64 {
 // band, as a fit weights it (UncertaintyPercent). A poor gauging's band is
 // open above, so it is never outside.
 func (g Gauging) Outside(departurePercent float64) bool {
-	switch {
-	case g.Uncertainty > 0:
-		return math.Abs(departurePercent) > g.Uncertainty
-	case g.Quality == rating.Unrated:
-		return math.Abs(departurePercent) > rating.FairBandPercent
+	if !(g.Uncertainty > 0) && g.Quality == rating.Poor {
+		return false
 	}
-	return g.Quality.Outside(departurePercent)
+	return math.Abs(departurePercent) > g.UncertaintyPercent()
 }
 
 // ErrNoHydraulic is returned for a report that needs a hydraulic rating
