@@ -64,6 +64,13 @@ func formulaBook(t *testing.T, saved bool) string {
 // edit.
 func rewriteZip(t *testing.T, data []byte, edit func(name string, b []byte) []byte) []byte {
 	t.Helper()
+	return renameZip(t, data, "", "", edit)
+}
+
+// renameZip returns the zip archive data with the entry from renamed to
+// to and every entry passed through edit.
+func renameZip(t *testing.T, data []byte, from, to string, edit func(name string, b []byte) []byte) []byte {
+	t.Helper()
 	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
 	if err != nil {
 		t.Fatal(err)
@@ -80,7 +87,11 @@ func rewriteZip(t *testing.T, data []byte, edit func(name string, b []byte) []by
 		if err != nil {
 			t.Fatal(err)
 		}
-		w, err := zw.Create(zf.Name)
+		name := zf.Name
+		if name == from {
+			name = to
+		}
+		w, err := zw.Create(name)
 		if err != nil {
 			t.Fatal(err)
 		}

@@ -1,7 +1,6 @@
 package survey
 
 import (
-	"archive/zip"
 	"bytes"
 	"encoding/csv"
 	"errors"
@@ -38,20 +37,7 @@ func shownBook(t *testing.T, uncertainty []any, stageFormat string, boolean bool
 			t.Fatal(err)
 		}
 	}
-	style := func(format any) int {
-		st := &excelize.Style{}
-		switch v := format.(type) {
-		case int:
-			st.NumFmt = v
-		case string:
-			st.CustomNumFmt = &v
-		}
-		id, err := f.NewStyle(st)
-		if err != nil {
-			t.Fatal(err)
-		}
-		return id
-	}
+	style := func(format any) int { return numberStyle(t, f, format) }
 	for i, format := range uncertainty {
 		cell, _ := excelize.CoordinatesToCellName(4, i+2)
 		if err := f.SetCellStyle("g", cell, cell, style(format)); err != nil {
@@ -334,6 +320,24 @@ func FuzzCSVSyntaxError(f *testing.F) {
 	})
 }
 
+// numberStyle adds to f a cell style of a number format: a built-in id
+// (int) or a custom code (string).
+func numberStyle(t *testing.T, f *excelize.File, format any) int {
+	t.Helper()
+	st := &excelize.Style{}
+	switch v := format.(type) {
+	case int:
+		st.NumFmt = v
+	case string:
+		st.CustomNumFmt = &v
+	}
+	id, err := f.NewStyle(st)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return id
+}
+
 // dateBook writes a workbook of one sheet, "xs": a site block whose
 // "surveyed" value B2 is a date cell, then a survey whose station cell
 // A6 holds what a spreadsheet makes of "6/1" typed into it (the serial
@@ -364,17 +368,7 @@ func dateBook(t *testing.T, format any, date1904 bool) string {
 			t.Fatal(err)
 		}
 	}
-	st := &excelize.Style{}
-	switch v := format.(type) {
-	case int:
-		st.NumFmt = v
-	case string:
-		st.CustomNumFmt = &v
-	}
-	id, err := f.NewStyle(st)
-	if err != nil {
-		t.Fatal(err)
-	}
+	id := numberStyle(t, f, format)
 	// The serials as the date system stores them: 1904's day 0 is
 	// 1904-01-01, 1 462 days after 1900's (ECMA-376 Part 1, 18.17.4.1,
 	// from memory).
@@ -570,42 +564,6 @@ func TestDateCellsFoundAnyway(t *testing.T) {
 			t.Errorf("%s: %v, want ErrDateNotNumber at ['xs']!A6", tc.name, err)
 		}
 	}
-}
-
-// renameZip returns the zip archive data with the entry from renamed to
-// to and every entry passed through edit.
-func renameZip(t *testing.T, data []byte, from, to string, edit func(name string, b []byte) []byte) []byte {
-	t.Helper()
-	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out bytes.Buffer
-	zw := zip.NewWriter(&out)
-	for _, zf := range zr.File {
-		rc, err := zf.Open()
-		if err != nil {
-			t.Fatal(err)
-		}
-		b, err := io.ReadAll(rc)
-		rc.Close()
-		if err != nil {
-			t.Fatal(err)
-		}
-		name := zf.Name
-		if name == from {
-			name = to
-		}
-		w, err := zw.Create(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		w.Write(edit(zf.Name, b))
-	}
-	if err := zw.Close(); err != nil {
-		t.Fatal(err)
-	}
-	return out.Bytes()
 }
 
 // A plain number in a time column (no date format) is read as a date
