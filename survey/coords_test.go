@@ -183,53 +183,46 @@ func TestCoordinateSurveyPrincipalAxis(t *testing.T) {
 	}
 }
 
-// A line given on the command line counts stations from its first point.
+// A line given on the command line counts stations from its left end: its
+// first point, or, when the pins put that on the right bank, its second,
+// with a warning. The two lines below are one line written both ways
+// round, so their stations and offsets are the same (by construction).
 func TestCoordinateSurveyLineGiven(t *testing.T) {
 	st := []float64{2, 5, 9, 12}
 	off := []float64{0.1, 0, -0.1, 0.3}
-	text := skewedLine(10, 20, 45, st, off, []float64{5, 1, 1, 5}, []string{"0.04", "", "", ""}, make([]string, 4))
 	th := 45 * math.Pi / 180
-	opt := CoordinateOptions{Given: true, Line: [4]float64{10, 20, 10 + 50*math.Sin(th), 20 + 50*math.Cos(th)}}
-	sv, err := ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{Coordinates: opt})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, p := range sv.Section.Points {
-		if !closeRel(p.Station, st[i], 1e-9, 1e-9) || !closeRel(sv.Projection.Offsets[i], off[i], 1e-9, 1e-9) {
-			t.Errorf("point %d: station %.12g offset %.12g, want %g %g", i, p.Station, sv.Projection.Offsets[i], st[i], off[i])
+	far := [2]float64{10 + 50*math.Sin(th), 20 + 50*math.Cos(th)}
+	for _, tc := range []struct {
+		name   string
+		marks  []string
+		line   [4]float64
+		turned bool
+	}{
+		{"from its left end", make([]string, 4), [4]float64{10, 20, far[0], far[1]}, false},
+		{"from its right end, by the pins", []string{"left pin", "", "", "right pin"}, [4]float64{far[0], far[1], 10, 20}, true},
+	} {
+		text := skewedLine(10, 20, 45, st, off, []float64{5, 1, 1, 5}, []string{"0.04", "", "", ""}, tc.marks)
+		sv, err := ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{Coordinates: CoordinateOptions{Given: true, Line: tc.line}})
+		if err != nil {
+			t.Fatal(err)
 		}
-	}
-	if sv.Projection.Line != LineGiven {
-		t.Errorf("line %q", sv.Projection.Line)
-	}
-}
-
-// A line given from its right end, by the pins, is turned: stations
-// count from its second point, the left end, and a warning says so. The
-// line here is the one of TestCoordinateSurveyLineGiven written the other
-// way round, so the stations and offsets are that test's.
-func TestCoordinateSurveyLineGivenTurned(t *testing.T) {
-	st := []float64{2, 5, 9, 12}
-	off := []float64{0.1, 0, -0.1, 0.3}
-	text := skewedLine(10, 20, 45, st, off, []float64{5, 1, 1, 5}, []string{"0.04", "", "", ""}, []string{"left pin", "", "", "right pin"})
-	th := 45 * math.Pi / 180
-	opt := CoordinateOptions{Given: true, Line: [4]float64{10 + 50*math.Sin(th), 20 + 50*math.Cos(th), 10, 20}}
-	sv, err := ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{Coordinates: opt})
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, p := range sv.Section.Points {
-		if !closeRel(p.Station, st[i], 1e-9, 1e-9) || !closeRel(sv.Projection.Offsets[i], off[i], 1e-9, 1e-9) {
-			t.Errorf("point %d: station %.12g offset %.12g, want %g %g", i, p.Station, sv.Projection.Offsets[i], st[i], off[i])
+		for i, p := range sv.Section.Points {
+			if !closeRel(p.Station, st[i], 1e-9, 1e-9) || !closeRel(sv.Projection.Offsets[i], off[i], 1e-9, 1e-9) {
+				t.Errorf("%s: point %d: station %.12g offset %.12g, want %g %g", tc.name, i, p.Station, sv.Projection.Offsets[i], st[i], off[i])
+			}
 		}
-	}
-	if !sv.Projection.LineTurned || !strings.Contains(strings.Join(sv.Warnings, "\n"), "the line given starts on the right bank") {
-		t.Errorf("turned %v, warnings %q", sv.Projection.LineTurned, sv.Warnings)
+		if sv.Projection.Line != LineGiven {
+			t.Errorf("%s: line %q", tc.name, sv.Projection.Line)
+		}
+		warned := strings.Contains(strings.Join(sv.Warnings, "\n"), "the line given starts on the right bank")
+		if sv.Projection.LineTurned != tc.turned || warned != tc.turned {
+			t.Errorf("%s: turned %v, warnings %q", tc.name, sv.Projection.LineTurned, sv.Warnings)
+		}
 	}
 	// A point on the turned line's left end is at station 0, not −0
 	// (which messages would write "-0").
 	east := "easting,northing,elevation,n\n0,0,5,0.035\n10,0.2,1,\n20,-0.1,1,\n30,0,5,\n"
-	sv, err = ParseSection(strings.NewReader(east), "e.csv", SectionOptions{Coordinates: CoordinateOptions{Given: true, Line: [4]float64{0, 0, 30, 0}, FlowAzimuth: 180, FlowGiven: true}})
+	sv, err := ParseSection(strings.NewReader(east), "e.csv", SectionOptions{Coordinates: CoordinateOptions{Given: true, Line: [4]float64{0, 0, 30, 0}, FlowAzimuth: 180, FlowGiven: true}})
 	if err != nil {
 		t.Fatal(err)
 	}
