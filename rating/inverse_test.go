@@ -663,7 +663,8 @@ func TestCriticalStageExtremum(t *testing.T) {
 		{"compound", compound, 20, []string{EnergyMinimum, EnergyNoExtremum, EnergyNoExtremum}, []bool{true, false, false}, math.NaN(), 2},
 		// A rectangle 2 m wide and 1 m deep carrying 25 m³/s: its critical
 		// depth, cbrt(12.5²/g) = 2.52 m, stands in the walls above its
-		// ends, which keep it a 2 m rectangle, so Emin = 1.5·yc still.
+		// ends, which keep it a 2 m rectangle, so Emin = 1.5·yc still
+		// (closed form for a rectangle: Chow 1959, section 3-2).
 		{"rectangle, critical stage in the walls", shallowRect, 25, []string{EnergyMinimum}, []bool{true}, 1.5 * math.Cbrt(12.5*12.5/g), 1},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
