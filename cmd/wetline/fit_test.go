@@ -597,6 +597,25 @@ func TestFitBreakAboveGaugingsRefused(t *testing.T) {
 	}
 }
 
+// A breakpoint the gaugings cannot honour inside their range: the demo's
+// three gaugings above 2.5 m (2.52 to 2.96 m) would need a replacing
+// control of exponent about 200 to join the first at 2.5 m. Both methods
+// refuse with exit status 1 and name the control, its breakpoint and its
+// gaugings, not a bare "no admissible start" (demodata).
+func TestFitBreakNoStartNamesControl(t *testing.T) {
+	t.Parallel()
+	for _, args := range [][]string{
+		{"--method", "lsq"},
+		{"--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"},
+	} {
+		out, errs, code := runCLI(t, append([]string{"fit", fitDemoGaugings, "--breaks", "2.5"}, args...)...)
+		if code != 1 || out != "" || !strings.Contains(errs, "control 2, from gauge height 2.5, would need an exponent of") ||
+			!strings.Contains(errs, "3 gaugings (2.52 to 2.96)") || strings.Count(errs, "\n") != 1 {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q", args, code, out, errs)
+		}
+	}
+}
+
 // A time of --exclude that is no gauging's (a slip of the keyboard) is an
 // error, exit status 1 as for a --period holding none, one line per such
 // time naming it (at --utc-offset) and the nearest gauging; a time that

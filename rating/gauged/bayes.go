@@ -188,7 +188,7 @@ type bayesProblem struct {
 // Errors: those of FitControls's options and gaugings, ErrBayesOptions,
 // ErrControlOptions for given breakpoints that leave a control on weak
 // priors fewer than MinPerSegment gaugings (see givenBreaksHold),
-// ErrFewGaugings when no start is admissible.
+// ErrNoStart when no start is admissible.
 //
 // References:
 //
@@ -222,7 +222,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
 		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
 	}
-	lsqStarts, lsqFull := lsqGuess(gs, opt.ControlOptions)
+	lsqStarts, lsqFull, noStart := lsqGuess(gs, opt.ControlOptions)
 	b := &bayesProblem{m: newModel(kinds, joints), d: d, opt: opt, warn: warn}
 	if err := b.resolvePriors(lsqFull); err != nil {
 		return nil, err
@@ -233,7 +233,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if len(b.m.free) == 0 {
 		return nil, fmt.Errorf("%w: every parameter is held fixed: nothing to sample", ErrBayesOptions)
 	}
-	modes, err := b.modes(lsqFull, lsqStarts)
+	modes, err := b.modes(lsqFull, lsqStarts, noStart)
 	if err != nil {
 		return nil, err
 	}
@@ -266,18 +266,23 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 
 // lsqGuess returns the least-squares fit's starting points and, when it
 // converges, its full parameter vector (nil otherwise): a guess at the
-// posterior mode and at priors the survey does not give.
-func lsqGuess(gs []Gauging, opt ControlOptions) ([][]float64, []float64) {
+// posterior mode and at priors the survey does not give. noStart is the
+// reason, wrapping ErrNoStart, when the least-squares search had no start
+// (nil otherwise).
+func lsqGuess(gs []Gauging, opt ControlOptions) (starts [][]float64, full []float64, noStart error) {
 	p, _, _, err := newLSQProblem(gs, opt)
 	if err != nil {
-		return nil, nil
+		return nil, nil, nil
 	}
-	starts := p.starts()
+	starts, err = p.starts()
+	if err != nil {
+		return nil, nil, err
+	}
 	x, _, err := p.solveFrom(starts)
 	if err != nil {
-		return starts, nil
+		return starts, nil, nil
 	}
-	return starts, p.m.full(x)
+	return starts, p.m.full(x), nil
 }
 
 // givenBreaksHold checks given breakpoints against the gaugings used: each
@@ -682,8 +687,9 @@ type mode struct {
 
 // modes returns the local posterior modes found from the least-squares
 // starts and the prior means, best first, keeping those within modeGap of
-// the best (distinct ones only).
-func (b *bayesProblem) modes(lsqFull []float64, lsqStarts [][]float64) ([]mode, error) {
+// the best (distinct ones only). With no admissible start the error wraps
+// ErrNoStart, with noStart's reason when least squares gave one.
+func (b *bayesProblem) modes(lsqFull []float64, lsqStarts [][]float64, noStart error) ([]mode, error) {
 	m := b.m
 	var starts [][]float64
 	withRemnant := func(full []float64) []float64 {
@@ -719,7 +725,10 @@ func (b *bayesProblem) modes(lsqFull []float64, lsqStarts [][]float64) ([]mode, 
 		found = append(found, mode{x: x, lp: -f})
 	}
 	if len(found) == 0 {
-		return nil, fmt.Errorf("%w: no admissible start for the posterior (check the breakpoints, offsets and priors)", ErrFewGaugings)
+		if noStart != nil {
+			return nil, noStart
+		}
+		return nil, fmt.Errorf("%w: the posterior is zero at every start (check the breakpoints, offsets and priors)", ErrNoStart)
 	}
 	sort.SliceStable(found, func(a, c int) bool { return found[a].lp > found[c].lp })
 	out := []mode{found[0]}

@@ -81,6 +81,11 @@ type ControlOptions struct {
 // ErrControlOptions is returned for controls or breakpoints a fit cannot use.
 var ErrControlOptions = errors.New("controls must be 1 to 4, with breakpoints ascending, one fewer than the controls")
 
+// ErrNoStart is returned when the controls asked for can make no rating
+// through the gaugings: a replacing control whose gaugings lie below the
+// discharge the control under it gives at its breakpoint, say.
+var ErrNoStart = errors.New("no rating of these controls starts from the gaugings")
+
 // specs returns the kinds and joints the options describe.
 func (o ControlOptions) specs() ([]ControlKind, []Joint, error) {
 	cs := o.Controls
@@ -224,7 +229,7 @@ type lsqProblem struct {
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
 // are not fitted but get their departures. Errors: ErrControlOptions,
 // ErrGauging, ErrBelowZero (a gauging at or below a fixed offset),
-// ErrFewGaugings.
+// ErrFewGaugings, ErrNoStart (naming the control that cannot start).
 //
 // References:
 //
@@ -240,7 +245,11 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	if err != nil {
 		return nil, err
 	}
-	x, ssr, err := p.solveFrom(p.starts())
+	starts, err := p.starts()
+	if err != nil {
+		return nil, err
+	}
+	x, ssr, err := p.solveFrom(starts)
 	if err != nil {
 		return nil, err
 	}
@@ -414,11 +423,9 @@ func (p *lsqProblem) residuals(x []float64) []float64 {
 	return out
 }
 
-// solveFrom finds the least-squares parameters from starts (full vectors).
+// solveFrom finds the least-squares parameters from starts (full vectors,
+// at least one).
 func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
-	if len(starts) == 0 {
-		return nil, 0, fmt.Errorf("%w: no admissible start (check the breakpoints and the spread of stages)", ErrFewGaugings)
-	}
 	obj := func(x []float64) float64 { return sumSq(p.residuals(x)) }
 	var best []float64
 	bestF := math.Inf(1)
@@ -444,20 +451,26 @@ type lsqStart struct {
 	ssr  float64
 }
 
-// starts returns the full vectors of the best starts, best first.
-func (p *lsqProblem) starts() [][]float64 {
+// starts returns the full vectors of the best starts, best first. With
+// none, the error wraps ErrNoStart and says why: for given breakpoints,
+// the control that cannot start.
+func (p *lsqProblem) starts() ([][]float64, error) {
 	keep := 1
 	if p.fitBreak {
 		keep = multiStart
 	}
 	var top []lsqStart
-	for _, br := range p.breakSets() {
-		full, ok := p.sequential(br)
-		if !ok {
+	var why error
+	sets := p.breakSets()
+	for _, br := range sets {
+		full, err := p.sequential(br)
+		if err != nil {
+			why = err
 			continue
 		}
 		ssr := sumSq(p.residuals(p.m.freeOf(full)))
 		if math.IsInf(ssr, 1) {
+			why = fmt.Errorf("%w: the first guess leaves a gauging without discharge (check the offsets and breakpoints)", ErrNoStart)
 			continue
 		}
 		top = append(top, lsqStart{full, ssr})
@@ -466,11 +479,20 @@ func (p *lsqProblem) starts() [][]float64 {
 			top = top[:keep]
 		}
 	}
+	switch {
+	case len(top) > 0:
+	case p.fitBreak:
+		return nil, fmt.Errorf("%w: none of %d trial sets of breakpoints gives a rating rising through the gaugings of every control: try fewer controls or give --breaks", ErrNoStart, len(sets))
+	case why != nil:
+		return nil, why
+	default:
+		return nil, fmt.Errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
+	}
 	out := make([][]float64, len(top))
 	for i, s := range top {
 		out[i] = s.full
 	}
-	return out
+	return out, nil
 }
 
 // breakSets returns the trial sets of breakpoints: the given ones, or
@@ -530,9 +552,9 @@ func trialOffsets(lo, span float64, extra ...float64) []float64 {
 
 // sequential builds a start for breakpoints br: the first control by a
 // profile over its offset on its own gaugings, then each later control on
-// its gaugings given the ones below. ok is false when a control has too
-// few gaugings.
-func (p *lsqProblem) sequential(br []float64) ([]float64, bool) {
+// its gaugings given the ones below. The error wraps ErrNoStart and names
+// the control that has too few gaugings or cannot rise through them.
+func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 	m, d := p.m, p.d
 	k := m.k()
 	full := append([]float64(nil), m.base...)
@@ -553,7 +575,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, bool) {
 	lo0, hi0 := edge(0)
 	h0, y0, w0 := d.slice(lo0, hi0)
 	if len(h0) < 2 {
-		return nil, false
+		return nil, p.thinStart(0, len(h0), br)
 	}
 	var offs []float64
 	if p.opt.OffsetFixed {
@@ -571,30 +593,46 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, bool) {
 		}
 	}
 	if math.IsInf(best, 1) {
-		return nil, false
+		return nil, fmt.Errorf("%w: control 1 (gauge heights %g to %g) has no power law rising through its gaugings", ErrNoStart, h0[0], h0[len(h0)-1])
 	}
 	for j := 1; j < k; j++ {
 		lo, hi := edge(j)
 		hs, ys, ws := d.slice(lo, hi)
 		if len(hs) < 2 {
-			return nil, false
+			return nil, p.thinStart(j, len(hs), br)
 		}
 		below, ok := p.m.ratingUpTo(full, j-1)
 		if !ok {
-			return nil, false
+			return nil, fmt.Errorf("%w: controls 1 to %d make no rating below breakpoint %g", ErrNoStart, j, br[j-1])
 		}
 		var lnA, c float64
 		if m.joints[j] == Add {
 			lnA, c = addStart(below, j-1, br[j-1], hs, ys, ws)
 		} else {
-			lnA, c, ok = replaceStart(below.upTo(j-1, br[j-1]), br[j-1], hs, ys, ws, span)
+			q0 := below.upTo(j-1, br[j-1])
+			lnA, c, ok = replaceStart(q0, br[j-1], hs, ys, ws, span)
 			if !ok {
-				return nil, false
+				qlo, qhi := math.Inf(1), math.Inf(-1)
+				for _, y := range ys {
+					qlo, qhi = math.Min(qlo, math.Exp(y)), math.Max(qhi, math.Exp(y))
+				}
+				return nil, fmt.Errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %d gaugings (%g to %g, discharge %.4g to %.4g) do not rise from it: try another breakpoint or fewer controls",
+					ErrNoStart, j+1, br[j-1], q0, j, len(hs), hs[0], hs[len(hs)-1], qlo, qhi)
 			}
 		}
 		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
+		if _, ok := p.m.ratingUpTo(full, j); !ok {
+			return nil, fmt.Errorf("%w: control %d, from gauge height %g, would need an exponent of %.3g to join control %d there and pass through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
+				ErrNoStart, j+1, br[j-1], c, j, len(hs), hs[0], hs[len(hs)-1])
+		}
 	}
-	return full, true
+	return full, nil
+}
+
+// thinStart is sequential's error for control j (from 0) holding only n
+// gaugings between breakpoints br.
+func (p *lsqProblem) thinStart(j, n int, br []float64) error {
+	return fmt.Errorf("%w: control %d holds %d gauging(s), too few to start from (breakpoints %v)", ErrNoStart, j+1, n, br)
 }
 
 // slice returns the stages, ln Q and weights of the gaugings with

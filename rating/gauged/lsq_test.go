@@ -2,10 +2,12 @@ package gauged_test
 
 import (
 	"encoding/csv"
+	"errors"
 	"math"
 	"math/rand/v2"
 	"os"
 	"strconv"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -204,5 +206,27 @@ func TestFitControlsThreeWithFloodplain(t *testing.T) {
 				t.Errorf("breaks %v: control %d %+v, want %+v", breaks, j+1, c, w)
 			}
 		}
+	}
+}
+
+// Given breakpoints the gaugings cannot honour: the gaugings above a
+// breakpoint lie below what the control under it gives there, so no
+// replacing control can rise from it through them (a rating rises with
+// stage). Least squares refuses with ErrNoStart naming that control and
+// its breakpoint, not with a bare "no start". The gaugings are invented:
+// Q = 5(h − 0.1)^1.8 to 1.5 m, then three at 80 % of its value at 1.6 m.
+func TestGivenBreakNoStart(t *testing.T) {
+	law := func(h float64) float64 { return 5 * math.Pow(h-0.1, 1.8) }
+	var gs []gauged.Gauging
+	for _, h := range linspace(0.3, 1.5, 10) {
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: law(h), Quality: rating.Good})
+	}
+	for _, h := range []float64{1.7, 1.8, 1.9} {
+		gs = append(gs, gauged.Gauging{Stage: h, Discharge: 0.8 * law(1.6), Quality: rating.Good})
+	}
+	opt := gauged.ControlOptions{Breaks: []float64{1.6}}
+	want := "control 2 takes over at gauge height 1.6"
+	if _, err := gauged.FitControls(gs, opt); !errors.Is(err, gauged.ErrNoStart) || !strings.Contains(err.Error(), want) {
+		t.Errorf("least squares: %v, want ErrNoStart with %q", err, want)
 	}
 }
