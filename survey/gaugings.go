@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"slices"
 	"strings"
 
 	"wetline/rating"
@@ -256,15 +257,17 @@ func (rd *gaugingReader) uncertainty(rec Record, g *gauged.Gauging) {
 	}
 }
 
+// KeepWords returns the words of the exclude column that keep a gauging
+// (as a blank cell does), matched case-insensitively: a spreadsheet makes
+// FALSE typed in a cell a boolean, which reads FALSE.
+func KeepWords() []string { return []string{"no", "n", "false", "0", "none"} }
+
 // excludeReason is the reason an exclude cell gives for leaving a
-// gauging out, "" to keep it: a blank cell, or one saying no (no, n,
-// false, 0, none, any case; a spreadsheet makes FALSE typed in a cell a
-// boolean, which reads FALSE), keeps the gauging; any other text is the
-// reason.
+// gauging out, "" to keep it: a blank cell, or one of KeepWords, keeps
+// the gauging; any other text is the reason.
 func excludeReason(cell string) string {
 	s := strings.TrimSpace(cell)
-	switch strings.ToLower(s) {
-	case "no", "n", "false", "0", "none":
+	if slices.Contains(KeepWords(), strings.ToLower(s)) {
 		return ""
 	}
 	return s

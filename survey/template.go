@@ -373,7 +373,7 @@ func gaugingColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ColGaugingUncertainty, Unit: "%", Format: "0.0##", Width: 15}, Rule: decimalRule(templateOpenEnd, MaxUncertaintyPercent-templateOpenEnd, true,
 			fmt.Sprintf("a percentage above 0 and below %g", MaxUncertaintyPercent)),
 			Help: "expanded uncertainty of the discharge at the 95 % level, in percent; blank: the band of the quality grade"},
-		{Column: workbook.Column{Name: ColGaugingExclude, Format: workbook.FormatText, Width: 24}, Help: "any text leaves the gauging out of rating fits and is shown as the reason; blank keeps it"},
+		{Column: workbook.Column{Name: ColGaugingExclude, Format: workbook.FormatText, Width: 24}, Help: "any text leaves the gauging out of rating fits and is shown as the reason; blank or " + strings.Join(KeepWords(), ", ") + " keeps it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
@@ -409,7 +409,7 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
 			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + "); " +
 			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +
-			"exclude: any text leaves the gauging out of rating fits and is shown as the reason; blank, no or FALSE keeps it."},
+			"exclude: any text leaves the gauging out of rating fits and is shown as the reason; blank or " + strings.Join(KeepWords(), ", ") + " (any case) keeps it."},
 		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
 		{"caution", rating.Caution},
 	}

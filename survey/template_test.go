@@ -896,3 +896,52 @@ func TestTemplateShowsTypedDigits(t *testing.T) {
 		}
 	}
 }
+
+// The template says what the reader does with the exclude column: each of
+// KeepWords, typed in a gauging's exclude cell, keeps the gauging, and the
+// gaugings sheet's instructions list every one of them (its help once
+// said only a blank keeps it).
+func TestTemplateExcludeKeepWords(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Rows: 10})
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d := time.Date(2026, 3, 14, 9, 30, 0, 0, time.UTC)
+	var rows [][]any
+	for i, w := range survey.KeepWords() {
+		rows = append(rows, []any{d.Add(time.Duration(i) * time.Hour), 1 + 0.1*float64(i), 2 + float64(i), "good", nil, strings.ToUpper(w)})
+	}
+	fillSheet(t, f, survey.FieldSheetGaugings, 2, rows)
+	instr, err := f.GetRows(survey.FieldSheetInstructions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	var text string
+	for _, r := range instr {
+		if len(r) > 1 && r[0] == survey.FieldSheetGaugings {
+			text = r[1]
+		}
+	}
+	for _, w := range survey.KeepWords() {
+		if !strings.Contains(text, " "+w) {
+			t.Errorf("instructions of %s do not name %q: %q", survey.FieldSheetGaugings, w, text)
+		}
+	}
+	gs, err := survey.ReadGaugings(path, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(gs.Gaugings) != len(rows) {
+		t.Fatalf("%d gaugings, want %d", len(gs.Gaugings), len(rows))
+	}
+	for _, g := range gs.Gaugings {
+		if g.Exclude != "" {
+			t.Errorf("gauging at %v: excluded for %q", g.Time, g.Exclude)
+		}
+	}
+}
