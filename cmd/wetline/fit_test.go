@@ -643,8 +643,9 @@ func TestFitExcludeMatchesNoGauging(t *testing.T) {
 }
 
 // A fit on a section states its calibration of n in JSON with the keys of
-// its contract, in order: the factor, the factor's own standard error, the
-// gaugings' scatter about the calibrated rating, channel_only. With every
+// its contract, in the order of the first release (channel_only, the
+// factor, the gaugings' scatter about the calibrated rating), the factor's
+// own standard error added after them. With every
 // n scaled, as here, the factor's standard error is the scatter over √n
 // in ln units (the standard error of a weighted mean), so below it.
 func TestFitCalibrationJSON(t *testing.T) {
@@ -658,7 +659,7 @@ func TestFitCalibrationJSON(t *testing.T) {
 		t.Fatal(err)
 	}
 	keys := jsonKeys(t, doc["calibration"])
-	if want := []string{"factor", "factor_standard_error_percent", "standard_error_percent", "channel_only"}; !slices.Equal(keys, want) {
+	if want := []string{"channel_only", "factor", "standard_error_percent", "factor_standard_error_percent"}; !slices.Equal(keys, want) {
 		t.Errorf("calibration keys %q, want %q", keys, want)
 	}
 	var c struct {

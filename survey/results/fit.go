@@ -345,7 +345,10 @@ type jsonFitReport struct {
 //	 "relation_tests":{...},"johnson":{...},"posterior":{...},
 //	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...}}
 //
-// Each segment (one per control) has from_stage, to_stage (the next
+// zero_flow has fixed, source, stage and standard_error; calibration
+// (with a section, else null) channel_only, factor, standard_error_percent
+// and factor_standard_error_percent. Each segment (one per control) has
+// from_stage, to_stage (the next
 // breakpoint, or the highest gauging fitted; null for a top control
 // starting above every gauging fitted), coefficient,
 // its own zero_flow_stage and exponent (with standard errors), control
@@ -774,14 +777,17 @@ func fitStar(b bool) string {
 }
 
 // jsonFitCalibration is a fit report's calibration of the section's n in
-// JSON: the factor, its own standard error in percent, the gaugings'
-// scatter about the calibrated rating (its standard error of estimate, in
-// percent) and whether only the channel's n was scaled.
+// JSON, its keys in the order the report has written them since the first
+// release (alphabetical, as a map gave them), the factor's own standard
+// error added after them: whether only the channel's n was scaled, the
+// factor, the gaugings' scatter about the calibrated rating (its standard
+// error of estimate, in percent) and the factor's standard error in
+// percent.
 type jsonFitCalibration struct {
-	Factor                     Float `json:"factor"`
-	FactorStandardErrorPercent Float `json:"factor_standard_error_percent"`
-	StandardErrorPercent       Float `json:"standard_error_percent"`
 	ChannelOnly                bool  `json:"channel_only"`
+	Factor                     Float `json:"factor"`
+	StandardErrorPercent       Float `json:"standard_error_percent"`
+	FactorStandardErrorPercent Float `json:"factor_standard_error_percent"`
 }
 
 // jsonZeroFlow is a fit's gauge height of zero flow in JSON, its keys in
