@@ -147,7 +147,7 @@ func TestRatingAxesHoldErrorBars(t *testing.T) {
 		{Stage: 0.5, Discharge: 0.1, Quality: rating.Poor, Uncertainty: 12},
 		{Stage: 1.5, Discharge: 11.5, Quality: rating.Good},
 		{Stage: 2.7, Discharge: 46.08, Quality: rating.Poor, Uncertainty: 12},
-		{Stage: 2.0, Discharge: 23.1, Quality: rating.Unrated}, // no bar (unrated, no uncertainty)
+		{Stage: 2.0, Discharge: 23.1, Quality: rating.Unrated}, // the fair band, as a fit weights it
 	}
 	r := RatingPlot{Units: rating.SI, Fitted: Curve{Points: curve}, Gaugings: gs, ZeroFlow: 0.3, HasZeroFlow: true}
 	d, _ := cleanRatingLines(r)
@@ -170,8 +170,10 @@ func TestRatingAxesHoldErrorBars(t *testing.T) {
 			t.Errorf("log panel %g to %g does not hold the bar %g to %g of the gauging at %g m", lg.X.Min, lg.X.Max, lo, hi, g.Stage)
 		}
 	}
-	if _, _, ok := gs[3].barEnds(); ok {
-		t.Error("an unrated gauging without an uncertainty has a bar")
+	// An unrated gauging without an uncertainty is drawn with the band it
+	// is weighted and judged by: the fair band, 23.1·(1 ± 0.08).
+	if lo, hi, ok := gs[3].barEnds(); !ok || math.Abs(lo-23.1*(1-rating.FairBandPercent/100)) > 1e-9 || math.Abs(hi-23.1*(1+rating.FairBandPercent/100)) > 1e-9 {
+		t.Errorf("unrated gauging's bar %g to %g (%v), want the fair band about 23.1", lo, hi, ok)
 	}
 }
 

@@ -53,29 +53,20 @@ type Gauging struct {
 	Quality rating.Quality
 	// Uncertainty is the half-width of the gauging's error bar in percent
 	// of its discharge (its expanded uncertainty at 95 %); 0 draws the
-	// quality's band (none for poor or unrated gaugings).
+	// band a fit weights the quality by (rating.Quality.WeightPercent: the
+	// fair band for an unrated gauging, PoorWeightPercent for a poor one).
 	Uncertainty float64
 	// Excluded draws the gauging hollow and grey: left out of the fit.
 	Excluded bool
 }
 
-// qualityBand returns the percent band of a gauging's quality, and false
-// for poor or unrated gaugings (no bounded band, no error bar).
-func qualityBand(q rating.Quality) (float64, bool) {
-	switch q {
-	case rating.Excellent, rating.Good, rating.Fair:
-		return q.BandPercent(), true
-	}
-	return 0, false
-}
-
 // barPercent is the half-width of a gauging's error bar in percent, and
-// false when it has none.
+// false when it has none (an infinite uncertainty).
 func (g Gauging) barPercent(q rating.Quality) (float64, bool) {
-	if g.Uncertainty > 0 && !math.IsInf(g.Uncertainty, 0) {
-		return g.Uncertainty, true
+	if g.Uncertainty > 0 {
+		return g.Uncertainty, !math.IsInf(g.Uncertainty, 0)
 	}
-	return qualityBand(q)
+	return q.WeightPercent(), true
 }
 
 // barEnds are the discharges at the ends of a gauging's error bar,

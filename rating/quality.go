@@ -90,14 +90,11 @@ func (q Quality) BandPercent() float64 {
 }
 
 // Outside reports whether a departure (percent) of a measured discharge
-// lies outside the quality's band. Poor and Unrated gaugings have no closed
-// band and are never outside.
+// lies outside the band it is held to: its WeightPercent, the band a fit
+// weights it by (the fair band for an unrated gauging). A poor gauging's
+// band is open above (more than PoorBandPercent), so it is never outside.
 func (q Quality) Outside(departurePercent float64) bool {
-	switch q {
-	case Excellent, Good, Fair:
-		return math.Abs(departurePercent) > q.BandPercent()
-	}
-	return false
+	return q != Poor && math.Abs(departurePercent) > q.WeightPercent()
 }
 
 // WeightPercent is the error in percent used to weight a gauging in a fit:

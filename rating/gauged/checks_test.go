@@ -127,9 +127,17 @@ func TestGaugingOutside(t *testing.T) {
 		{"uncertainty 3 % over good", gauged.Gauging{Quality: rating.Good, Uncertainty: 3}, 4, true},
 		{"uncertainty 12 % over good", gauged.Gauging{Quality: rating.Good, Uncertainty: 12}, -9, false},
 		{"uncertainty on an unrated gauging", gauged.Gauging{Uncertainty: 5}, 6, true},
+		{"uncertainty on a poor gauging", gauged.Gauging{Quality: rating.Poor, Uncertainty: 20}, 25, true},
 	} {
 		if got := tc.g.Outside(tc.d); got != tc.want {
 			t.Errorf("%s: Outside(%g) = %v, want %v", tc.name, tc.d, got, tc.want)
+		}
+		// Without its own uncertainty, the gauging is judged as its
+		// quality is: one rule, not two.
+		if tc.g.Uncertainty == 0 {
+			if got := tc.g.Quality.Outside(tc.d); got != tc.want {
+				t.Errorf("%s: Quality.Outside(%g) = %v, want %v", tc.name, tc.d, got, tc.want)
+			}
 		}
 	}
 }

@@ -39,7 +39,7 @@ func (c Comparison) Compared() int {
 // Compare measures every gauging against the hydraulic rating c: the rated
 // discharge at its gauge height, the percent departure 100·(Q − Qr)/Qr,
 // the stage shift that would make the rating pass through it, and whether
-// the departure lies outside its quality band (see Quality.Outside).
+// the departure lies outside its band (see Gauging.Outside).
 func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 	cmp := Comparison{Datum: c.Datum, Residuals: make([]Residual, len(gs))}
 	var errs []error

@@ -23,8 +23,8 @@ type GaugingShift struct {
 	// Departure is 100·(Q − Rated)/Rated (percent; NaN when Rated is not
 	// above zero).
 	Departure float64
-	// Outside reports a Departure outside the gauging's quality band
-	// (rating.Quality.Outside).
+	// Outside reports a Departure outside the gauging's band
+	// (Gauging.Outside).
 	Outside bool
 	// Shift is the measured shift: the rating's gauge height for the
 	// measured discharge minus the gauge height read (length unit; NaN when

@@ -191,14 +191,14 @@ func (g Gauging) UncertaintyPercent() float64 {
 // Outside reports whether a departure (percent) of the gauging's
 // discharge from a rating lies outside the gauging's band: its own
 // uncertainty when one is given (percent at 95 %), else its quality's
-// band (rating.Quality.Outside); an unrated gauging is held to the fair
-// band, as a fit weights it (UncertaintyPercent). A poor gauging's band is
-// open above, so it is never outside.
+// (rating.Quality.Outside: an unrated gauging is held to the fair band, as
+// a fit weights it, and a poor one is never outside). The band is the one
+// UncertaintyPercent gives, which the fit figure draws as the error bar.
 func (g Gauging) Outside(departurePercent float64) bool {
-	if !(g.Uncertainty > 0) && g.Quality == rating.Poor {
-		return false
+	if g.Uncertainty > 0 {
+		return math.Abs(departurePercent) > g.Uncertainty
 	}
-	return math.Abs(departurePercent) > g.UncertaintyPercent()
+	return g.Quality.Outside(departurePercent)
 }
 
 // ErrNoHydraulic is returned for a report that needs a hydraulic rating
