@@ -522,8 +522,8 @@ func (f *fitFlags) periodHolds(path string, gs []gauged.Gauging, opt gauged.Opti
 // excludesMatch checks that every time of --exclude is the time of one
 // of the gaugings read from path (the same instant, whatever offset each
 // is written with): a time matching none, most likely mistyped, is an
-// error naming it as read and the nearest gauging's time, one line per
-// such time.
+// error (wrapping gauged.ErrExcludeUnmatched) naming it as read and the
+// nearest gauging's time, one line per such time.
 func excludesMatch(path string, gs []gauged.Gauging, opt gauged.Options) error {
 	var errs []error
 	for _, m := range opt.Controls.Selection.Unmatched(gs) {
@@ -531,8 +531,8 @@ func excludesMatch(path string, gs []gauged.Gauging, opt gauged.Options) error {
 		if !m.Nearest.IsZero() {
 			near = "the nearest is at " + gauged.TimeText(m.Nearest, opt.UTCOffset)
 		}
-		errs = append(errs, fmt.Errorf("fit: --exclude %s: no gauging of %s is at that time (%s): check the time against the file",
-			gauged.TimeText(m.Time, opt.UTCOffset), path, near))
+		errs = append(errs, fmt.Errorf("fit: --exclude %s: %s: %w (%s): check the time against the file",
+			gauged.TimeText(m.Time, opt.UTCOffset), path, gauged.ErrExcludeUnmatched, near))
 	}
 	return errors.Join(errs...)
 }

@@ -17,6 +17,7 @@ import (
 	"github.com/xuri/excelize/v2"
 
 	"wetline/plotting"
+	"wetline/rating/gauged"
 )
 
 // fitRun runs the program and returns stdout, stderr and run's error.
@@ -623,18 +624,34 @@ func TestFitBreakNoStartNamesControl(t *testing.T) {
 // Demo gaugings at 2019-05-19T08:45 and 2019-07-15T12:45 (demodata).
 func TestFitExcludeMatchesNoGauging(t *testing.T) {
 	t.Parallel()
-	out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--exclude", "2019-05-19T08:45,2019-07-15T12:54,2019-05-19T09:45")
-	lines := strings.Split(strings.TrimSpace(errs), "\n")
-	if code != 1 || out != "" || len(lines) != 2 ||
-		!strings.Contains(lines[0], "--exclude 2019-07-15T12:54:00Z: no gauging of "+fitDemoGaugings+" is at that time (the nearest is at 2019-07-15T12:45:00Z)") ||
-		!strings.Contains(lines[1], "--exclude 2019-05-19T09:45:00Z") {
-		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errs)
-	}
-	// At +10:00 the file's times, written without an offset, are read at
-	// +10:00 too.
-	_, errs, code = runCLI(t, "fit", fitDemoGaugings, "--method", "lsq", "--utc-offset", "+10:00", "--exclude", "2019-05-19T09:45")
-	if code != 1 || !strings.Contains(errs, "--exclude 2019-05-19T09:45:00+10:00: no gauging") || !strings.Contains(errs, "nearest is at 2019-05-19T08:45:00+10:00") {
-		t.Errorf("at +10:00: exit %d, stderr %q", code, errs)
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		lines []string // one a time matching no gauging, in the order given
+	}{
+		{"two of three mistyped", []string{"--exclude", "2019-05-19T08:45,2019-07-15T12:54,2019-05-19T09:45"}, []string{
+			"--exclude 2019-07-15T12:54:00Z: " + fitDemoGaugings + ": no gauging is at that time (the nearest is at 2019-07-15T12:45:00Z)",
+			"--exclude 2019-05-19T09:45:00Z: " + fitDemoGaugings + ": no gauging is at that time (the nearest is at 2019-05-19T08:45:00Z)"}},
+		// At +10:00 the file's times, written without an offset, are
+		// read at +10:00 too.
+		{"at +10:00", []string{"--utc-offset", "+10:00", "--exclude", "2019-05-19T09:45"}, []string{
+			"--exclude 2019-05-19T09:45:00+10:00: " + fitDemoGaugings + ": no gauging is at that time (the nearest is at 2019-05-19T08:45:00+10:00)"}},
+	} {
+		args := append([]string{"fit", fitDemoGaugings, "--method", "lsq"}, tc.args...)
+		out, errs, code := runCLI(t, args...)
+		lines := strings.Split(strings.TrimSpace(errs), "\n")
+		if code != 1 || out != "" || len(lines) != len(tc.lines) {
+			t.Errorf("%s: exit %d, stdout %q, stderr %q", tc.name, code, out, errs)
+			continue
+		}
+		for i, want := range tc.lines {
+			if !strings.Contains(lines[i], want) {
+				t.Errorf("%s: line %d %q, want %q", tc.name, i+1, lines[i], want)
+			}
+		}
+		if _, _, err := fitRun(t, args...); !errors.Is(err, gauged.ErrExcludeUnmatched) {
+			t.Errorf("%s: %v, want gauged.ErrExcludeUnmatched", tc.name, err)
+		}
 	}
 	doc := fitJSON(t, fitDemoGaugings, "--method", "lsq", "--exclude", "2019-05-19T18:45+10:00") // 08:45 UTC
 	if s := doc["selection"].(map[string]any); s["excluded"] != 1.0 {

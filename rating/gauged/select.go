@@ -97,11 +97,18 @@ type data struct {
 // n is the number of gaugings used.
 func (d *data) n() int { return len(d.h) }
 
+// ErrExcludeUnmatched is the cause of a time of Selection.Exclude that is
+// no gauging's (see Selection.Unmatched).
+var ErrExcludeUnmatched = errors.New("no gauging is at that time")
+
 // ExcludeMiss is a time of Selection.Exclude that is no gauging's, with
-// the time of the gauging nearest it (the zero time when no gauging has
-// one).
+// the time of the gauging nearest it.
 type ExcludeMiss struct {
-	Time, Nearest time.Time
+	// Time is the time given to exclude.
+	Time time.Time
+	// Nearest is the time of the gauging nearest Time: the zero time when
+	// no gauging has a time.
+	Nearest time.Time
 }
 
 // Unmatched returns the times of s.Exclude that are no gauging's of gs
