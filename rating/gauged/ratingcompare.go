@@ -17,6 +17,12 @@ type RatingDifference struct {
 	// Difference is B − A (discharge unit); Percent is 100·(B − A)/A
 	// (NaN where A is zero).
 	Difference, Percent float64
+	// Shift is the gauge-height shift that makes A give B's discharge at
+	// this stage, A(Stage + Shift) = B, as a shift is added to the gauge
+	// height (length unit; NaN where B is zero or outside A's rows): B
+	// read as A shifted, the form a channel change takes at a section
+	// control.
+	Shift float64
 }
 
 // RatingComparison is two ratings over the range of stage they share: the
@@ -36,7 +42,13 @@ type RatingComparison struct {
 	Rows []RatingDifference
 	// MaxPercent is the largest absolute percent difference (percent) and
 	// MaxStage its gauge height (length unit); NaN when no row has one.
+	// Near zero flow a small difference is a large percentage, so
+	// MaxDifference, the largest absolute B − A (discharge unit), and its
+	// gauge height MaxDifferenceStage are given beside it.
 	MaxPercent, MaxStage float64
+	// MaxDifference is the B − A of the largest absolute size (discharge
+	// unit) and MaxDifferenceStage its gauge height (length unit).
+	MaxDifference, MaxDifferenceStage float64
 	// ExtrapolatedA and ExtrapolatedB say where in the common range each
 	// table is extrapolated above the highest gauging it rests on (rows
 	// marked extrapolated; RatingTable.HighGauging).
@@ -91,13 +103,15 @@ type CompareOptions struct {
 // table is read beyond its rows: the range is where both have rows. Rows
 // above a table's highest gauging are extrapolated beyond the
 // measurements, and the comparison says where in the range they lie
-// (ExtrapolatedA, ExtrapolatedB). Ratings that share no range give
-// ErrNoCommonRange.
+// (ExtrapolatedA, ExtrapolatedB). Each row also gives the shift of A's
+// gauge height that carries B's discharge (RatingDifference.Shift). Ratings
+// that share no range give ErrNoCommonRange.
 func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, error) {
 	alo, ahi := a.Range()
 	blo, bhi := b.Range()
+	nan := math.NaN()
 	c := RatingComparison{Units: opt.Units, A: a.Name(), B: b.Name(), TableA: a.Table(), TableB: b.Table(),
-		From: math.Max(alo, blo), To: math.Min(ahi, bhi), MaxPercent: math.NaN(), MaxStage: math.NaN()}
+		From: math.Max(alo, blo), To: math.Min(ahi, bhi), MaxPercent: nan, MaxStage: nan, MaxDifference: nan, MaxDifferenceStage: nan}
 	if !(c.From < c.To) {
 		return c, fmt.Errorf("%w: %g to %g and %g to %g", ErrNoCommonRange, alo, ahi, blo, bhi)
 	}
@@ -109,12 +123,18 @@ func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, er
 	for _, h := range stages {
 		qa, _ := a.Discharge(h)
 		qb, _ := b.Discharge(h)
-		d := RatingDifference{Stage: h, A: qa, B: qb, Difference: qb - qa, Percent: math.NaN()}
+		d := RatingDifference{Stage: h, A: qa, B: qb, Difference: qb - qa, Percent: nan, Shift: nan}
 		if qa > 0 {
 			d.Percent = 100 * (qb - qa) / qa
 			if math.IsNaN(c.MaxPercent) || math.Abs(d.Percent) > c.MaxPercent {
 				c.MaxPercent, c.MaxStage = math.Abs(d.Percent), h
 			}
+		}
+		if math.IsNaN(c.MaxDifference) || math.Abs(d.Difference) > math.Abs(c.MaxDifference) {
+			c.MaxDifference, c.MaxDifferenceStage = d.Difference, h
+		}
+		if ha, err := a.Stage(qb); err == nil {
+			d.Shift = ha - h
 		}
 		c.Rows = append(c.Rows, d)
 	}
@@ -124,7 +144,7 @@ func CompareRatings(a, b *TableRating, opt CompareOptions) (RatingComparison, er
 // stages lays out the comparison's stages.
 func (c *RatingComparison) stages(a, b *TableRating, step float64) ([]float64, error) {
 	if step > 0 {
-		return rating.StageRange(c.From, c.To, step)
+		return roundStages(c.From, c.To, step)
 	}
 	if step < 0 || math.IsNaN(step) {
 		return nil, fmt.Errorf("%w: step %g", rating.ErrStages, step)
@@ -139,4 +159,33 @@ func (c *RatingComparison) stages(a, b *TableRating, step float64) ([]float64, e
 	}
 	sort.Float64s(out)
 	return rating.SortedStages(out), nil
+}
+
+// roundStages returns from, the multiples of step strictly between from
+// and to, and to: a comparison at round gauge heights (0.5, 1.0, …) whose
+// ends are the common range's. More than rating.MaxStages stages is
+// rating.ErrStepTooFine.
+func roundStages(from, to, step float64) ([]float64, error) {
+	k0, k1 := math.Floor(from/step)+1, math.Ceil(to/step)-1
+	if n := k1 - k0 + 3; !(n <= rating.MaxStages) {
+		return nil, fmt.Errorf("%w: %.3g stages from %g to %g is more than %d", rating.ErrStepTooFine, n, from, to, rating.MaxStages)
+	}
+	out := []float64{from}
+	for k := k0; k <= k1; k++ {
+		// k·step rounded to the step's own decimals, so 0.1·3 is 0.3.
+		h := roundTo(k*step, step)
+		if h > from && h < to {
+			out = append(out, h)
+		}
+	}
+	return append(out, to), nil
+}
+
+// roundTo rounds x to the decimals step is written with (up to 9).
+func roundTo(x, step float64) float64 {
+	p := 1.0
+	for i := 0; i < 9 && math.Abs(step*p-math.Round(step*p)) > 1e-9*step*p; i++ {
+		p *= 10
+	}
+	return math.Round(x*p) / p
 }

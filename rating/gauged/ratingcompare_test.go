@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"slices"
 	"testing"
 )
 
@@ -76,5 +77,48 @@ func TestCompareRatingsExtrapolation(t *testing.T) {
 				t.Errorf("A %+v (any %v), B %+v (any %v); want A %+v, B %+v", c.ExtrapolatedA, c.ExtrapolatedA.Any(), c.ExtrapolatedB, c.ExtrapolatedB.Any(), tc.wantA, tc.wantB)
 			}
 		})
+	}
+}
+
+// Each row gives the shift of A's gauge height that carries B's discharge,
+// and the comparison the largest difference in discharge beside the
+// largest in percent. A is Q = 10(h − 0.3)², B = 10(h − 0.2)², both
+// tabulated with their zero flows, so log-linear interpolation in h − e is
+// exact between rows and B is A shifted by +0.1 m at every stage (closed
+// form). B − A = 10(0.2h − 0.05) = 2h − 0.5 grows with stage, largest
+// at the top (5.5 m³/s at 3 m); the percent difference is largest at the
+// bottom. With a step the rows are the range's ends and the multiples of
+// the step between them.
+func TestCompareRatingsShift(t *testing.T) {
+	law := func(e float64) RatingTable {
+		rt := RatingTable{HasZeroFlow: true, ZeroFlow: e}
+		for h := 0.5; h <= 3+1e-9; h += 0.25 {
+			rt.Points = append(rt.Points, RatingPoint{Stage: h, Discharge: 10 * (h - e) * (h - e)})
+		}
+		return rt
+	}
+	a, b := compileRating(t, law(0.3)), compileRating(t, law(0.2))
+	c, err := CompareRatings(a, b, CompareOptions{Step: 0.4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var stages []float64
+	for _, r := range c.Rows {
+		stages = append(stages, r.Stage)
+		switch {
+		case r.B > 10*(3-0.3)*(3-0.3): // beyond A's rows
+			if !math.IsNaN(r.Shift) {
+				t.Errorf("at %g m B %g is above A's rows: shift %g, want NaN", r.Stage, r.B, r.Shift)
+			}
+		case math.Abs(r.Shift-0.1) > 1e-9:
+			t.Errorf("at %g m shift %.12f, want 0.1", r.Stage, r.Shift)
+		}
+	}
+	want := []float64{0.5, 0.8, 1.2, 1.6, 2, 2.4, 2.8, 3}
+	if !slices.Equal(stages, want) {
+		t.Errorf("stages %v, want %v", stages, want)
+	}
+	if math.Abs(c.MaxDifference-5.5) > 1e-9 || c.MaxDifferenceStage != 3 || c.MaxStage != 0.5 {
+		t.Errorf("largest difference %g at %g, largest percent at %g; want 5.5 at 3, percent at 0.5", c.MaxDifference, c.MaxDifferenceStage, c.MaxStage)
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"fmt"
 	"io"
+	"math"
 	"strings"
 
 	"wetline/rating"
@@ -18,7 +19,7 @@ const SheetComparison = "comparison"
 // ratings as CSV, in order. They are a contract with scripts; add columns
 // after them.
 func RatingComparisonColumns() []string {
-	return []string{"stage", "discharge_a", "discharge_b", "difference", "percent_difference"}
+	return []string{"stage", "discharge_a", "discharge_b", "difference", "percent_difference", "shift"}
 }
 
 // SectionComparisonColumns returns the columns of a comparison of two
@@ -34,12 +35,13 @@ func SectionComparisonColumns() []string {
 
 // WriteRatingComparisonCSV writes two ratings side by side
 // (RatingComparisonColumns()): at every stage of their common range each
-// discharge, B − A and 100·(B − A)/A. Undefined values are empty cells.
+// discharge, B − A, 100·(B − A)/A and the shift of A's gauge height that
+// carries B's discharge. Undefined values are empty cells.
 func WriteRatingComparisonCSV(w io.Writer, c *gauged.RatingComparison) error {
 	bw := bufio.NewWriter(w)
 	writeRecord(bw, RatingComparisonColumns())
 	for _, r := range c.Rows {
-		writeRecord(bw, []string{FormatLength(r.Stage), FormatFloat(r.A), FormatFloat(r.B), FormatFloat(r.Difference), FormatFloat(r.Percent)})
+		writeRecord(bw, []string{FormatLength(r.Stage), FormatFloat(r.A), FormatFloat(r.B), FormatFloat(r.Difference), FormatFloat(r.Percent), FormatLength(r.Shift)})
 	}
 	return bw.Flush()
 }
@@ -50,6 +52,7 @@ type jsonRatingDifference struct {
 	B          Float `json:"discharge_b"`
 	Difference Float `json:"difference"`
 	Percent    Float `json:"percent_difference"`
+	Shift      Float `json:"shift"`
 }
 
 // WriteRatingComparisonJSON writes a comparison of two ratings as one JSON
@@ -57,7 +60,12 @@ type jsonRatingDifference struct {
 //
 //	{"kind": "ratings", "a", "b", "units", "from", "to", "max_percent",
 //	 "max_stage", "rows": [{"stage", "discharge_a", "discharge_b",
-//	 "difference", "percent_difference"}], "ratings", "warnings", "caution"}
+//	 "difference", "percent_difference", "shift"}], "ratings", "warnings",
+//	 "caution", "site", "max_difference", "max_difference_stage"}
+//
+// max_percent is the largest absolute percent difference, max_difference
+// the largest B − A by size (signed); shift is the gauge-height shift of A
+// that gives B's discharge at the row's stage.
 //
 // ratings describes the two tables (as the record's JSON does, periods 1
 // and 2 standing for A and B). Undefined values are null.
@@ -76,11 +84,14 @@ func WriteRatingComparisonJSON(w io.Writer, c *gauged.RatingComparison) error {
 		Warnings   []string               `json:"warnings"`
 		Caution    string                 `json:"caution"`
 		Site       *jsonSite              `json:"site"`
+		MaxDiff    Float                  `json:"max_difference"`
+		MaxDiffAt  Float                  `json:"max_difference_stage"`
 	}{Kind: "ratings", A: c.A, B: c.B, Units: UnitNames(c.Units), From: Float(c.From), To: Float(c.To),
 		MaxPercent: Float(c.MaxPercent), MaxStage: Float(c.MaxStage), Rows: []jsonRatingDifference{},
+		MaxDiff: Float(c.MaxDifference), MaxDiffAt: Float(c.MaxDifferenceStage),
 		Warnings: nonNil(c.Warnings), Caution: rating.Caution, Site: siteJSON(c.Provenance.Site)}
 	for _, r := range c.Rows {
-		out.Rows = append(out.Rows, jsonRatingDifference{Float(r.Stage), Float(r.A), Float(r.B), Float(r.Difference), Float(r.Percent)})
+		out.Rows = append(out.Rows, jsonRatingDifference{Float(r.Stage), Float(r.A), Float(r.B), Float(r.Difference), Float(r.Percent), Float(r.Shift)})
 	}
 	out.Ratings = jsonPeriods(comparedTables(c), nil)
 	return writeJSON(w, out)
@@ -105,11 +116,11 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	ts := comparedTables(c)
 	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
 	fmt.Fprintf(bw, "Common range of stage: %s to %s %s, within the rows of both tables; %s\n", FormatLength(c.From), FormatLength(c.To), L, extrapolationWords(c))
-	fmt.Fprintf(bw, "Largest difference: %s %% at %s %s\n", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage), L)
-	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s\n", "stage", "A", "B", "B − A", "% diff.")
-	fmt.Fprintf(bw, "  %9s %12s %12s %12s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")")
+	fmt.Fprintf(bw, "Largest difference: %s\n", largestWords(c))
+	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s %9s\n", "stage", "A", "B", "B − A", "% diff.", "shift")
+	fmt.Fprintf(bw, "  %9s %12s %12s %12s %9s %9s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")", "", "("+L+")")
 	for _, r := range c.Rows {
-		fmt.Fprintf(bw, "  %9.3f %12s %12s %12s %9s\n", r.Stage, sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2))
+		fmt.Fprintf(bw, "  %9.3f %12s %12s %12s %9s %9s\n", r.Stage, sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2), fixed(r.Shift, 3))
 	}
 	writeTextEnd(bw, c.Warnings)
 	return bw.Flush()
@@ -178,7 +189,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
 		{"common range of stage", fmt.Sprintf("%s to %s (within the rows of both tables)", FormatLength(c.From), FormatLength(c.To)), L},
 		{"extrapolated above the highest gauging", extrapolationWords(c), ""},
-		{"largest difference", fmt.Sprintf("%s %% at %s", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage)), L},
+		{"largest difference", largestWords(c), ""},
 	}
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
 		return err
@@ -189,12 +200,13 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{Name: "discharge_b", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "difference", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "percent_difference", Unit: "%", Format: "0.00"},
+		{Name: "shift", Unit: L, Format: "0.000"},
 	})
 	if err != nil {
 		return err
 	}
 	for _, r := range c.Rows {
-		if err := s.Row(r.Stage, r.A, r.B, r.Difference, r.Percent); err != nil {
+		if err := s.Row(r.Stage, r.A, r.B, r.Difference, r.Percent, r.Shift); err != nil {
 			return err
 		}
 	}
@@ -366,4 +378,26 @@ func WriteComparisonSummary(w io.Writer, what string, rows int, warnings []strin
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "wrote %s: %s, %d stages\n", path, what, rows)
 	return endSummary(bw, warnings)
+}
+
+// largestWords says where two ratings differ most: in discharge, with its
+// percentage, and in percent where that falls elsewhere (near zero flow a
+// small difference is a large percentage).
+func largestWords(c *gauged.RatingComparison) string {
+	L, Q := c.Units.Length(), c.Units.Discharge()
+	if math.IsNaN(c.MaxDifference) {
+		return "none (no row)"
+	}
+	pct := ""
+	for _, r := range c.Rows {
+		if r.Stage == c.MaxDifferenceStage && !math.IsNaN(r.Percent) {
+			pct = fmt.Sprintf(" (%s %%)", fixed(r.Percent, 2))
+			break
+		}
+	}
+	out := fmt.Sprintf("%s %s at %s %s%s", sig(c.MaxDifference, 4), Q, FormatLength(c.MaxDifferenceStage), L, pct)
+	if !math.IsNaN(c.MaxPercent) && c.MaxStage != c.MaxDifferenceStage {
+		out += fmt.Sprintf("; in percent, %s %% at %s %s", fixed(c.MaxPercent, 2), FormatLength(c.MaxStage), L)
+	}
+	return out
 }
