@@ -46,7 +46,7 @@ func TestRecordedStageAtGauging(t *testing.T) {
 		{"halfway from 01:00 to 02:00", 1.5, 0, 1.20 + 0.5*(1.10-1.20), 1, 2}, // 1.15
 		{"in the gap of 6 h, longer than 2 h", 5, 0, nan, 2, 3},
 		{"in a gap of 6 h, as long as the maximum", 5, 6 * time.Hour, 1.10 + 3.0/6*(1.40-1.10), 2, 3}, // 1.25
-		{"three quarters of the way from 08:00 to 09:00", 8.75, 0, 1.40 + 0.75*(1.30-1.40), 3, 4},   // 1.325
+		{"three quarters of the way from 08:00 to 09:00", 8.75, 0, 1.40 + 0.75*(1.30-1.40), 3, 4},     // 1.325
 		{"at the last reading", 9, 0, 1.30, 4, 4},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
