@@ -337,7 +337,7 @@ func (o *utcOffset) Set(s string) error {
 func (o *utcOffset) Type() string { return "offset" }
 
 const recordUsage = "record STAGES --rating FILE[@TIME] [--rating FILE@TIME ...] [--shifts FILE] [--gaugings FILE] [--daily] [--unit] " +
-	"[--max-gap DURATION] [--utc-offset ±HH:MM] [--zero-flow E] [--highest-gauging H] [--extrapolate] [--datum D] [--units si|us] " +
+	"[--max-gap DURATION] [--stage-tolerance D] [--utc-offset ±HH:MM] [--zero-flow E] [--highest-gauging H] [--extrapolate] [--datum D] [--units si|us] " +
 	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
 
 // recordFlags are the flags of the record command.
@@ -348,6 +348,7 @@ type recordFlags struct {
 	gaugingsSheet string
 	daily, unit   bool
 	maxGap        time.Duration
+	stageTol      float64
 	format        string
 	output        string
 	plots, site   string
@@ -356,11 +357,13 @@ type recordFlags struct {
 func (f *recordFlags) register(fs *flagSet) {
 	f.historyFlags.register(fs)
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet of the stage record (default: the first visible sheet)")
-	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: set against the record and drawn on the hydrograph")
+	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: those within the record's span set against the record (discharge and gauge height) and drawn on the hydrograph")
 	fs.StringVar(&f.gaugingsSheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
 	fs.BoolVar(&f.daily, "daily", false, "write the daily values (the default in text and CSV); with --unit too, both tables, in text, JSON or a workbook (a CSV file holds one: give one of them)")
 	fs.BoolVar(&f.unit, "unit", false, "write the unit values, one row per reading (JSON and workbooks write both tables unless --daily or --unit alone picks one)")
 	fs.DurationVar(&f.maxGap, "max-gap", record.DefaultMaxGap, "longest time between readings that is bridged, as 90m or 2h; longer gaps are left uncovered")
+	fs.Float64Var(&f.stageTol, "stage-tolerance", 0, "largest difference between a gauging's gauge height and the recorded stage at its time that is not flagged, in the length unit "+
+		"(default 0.02 m, or 0.06 ft in US units)")
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv (one table) or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the hydrograph figure (PNG) into this folder")
@@ -403,8 +406,11 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 	if !(f.maxGap > 0) || f.maxGap%time.Second != 0 {
 		return usagef("record: --max-gap %v: want a positive whole number of seconds, as 90m or 2h", f.maxGap)
 	}
-	if err := fs.needs("--gaugings FILE", f.gaugings != "", "gaugings-sheet"); err != nil {
+	if err := fs.needs("--gaugings FILE", f.gaugings != "", "gaugings-sheet", "stage-tolerance"); err != nil {
 		return err
+	}
+	if fs.Changed("stage-tolerance") && !(f.stageTol > 0 && f.stageTol <= survey.MaxElevation) {
+		return usagef("record: --stage-tolerance %g: want a positive length, as 0.02", f.stageTol)
 	}
 	res, err := f.compute(fs, fs.Arg(0), format, tables)
 	if err != nil {
@@ -454,7 +460,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 			return nil, fmt.Errorf("record: %s: %w", path, err)
 		}
 	}
-	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset)}
+	opt := record.Options{MaxGap: f.maxGap, UTCOffset: time.Duration(f.offset), StageTolerance: f.stageTol}
 	inputs = append([]string{path}, inputs...)
 	warnings = append(warnings, sr.Warnings...)
 	site := sr.Site // the stage record's, its blanks from the gaugings'

@@ -572,3 +572,80 @@ func TestRecordBothTables(t *testing.T) {
 		}
 	}
 }
+
+// TestRecordGaugeStages: gaugings outside the record's span are left out
+// of the check, counted once; each gauging within it gets the recorded
+// stage at its time and the difference, flagged beyond the tolerance. By
+// hand on testdata/record/stage.csv (max gap 4 h): at 10:30 the record is
+// 0.84 + 1.5/3·(1.12 − 0.84) = 0.98 m, so a gauge height of 0.95 m differs
+// by −0.03 m, beyond the default 0.02 m but within --stage-tolerance 0.05;
+// 14:00 falls in the 5 h gap from 12:00 to 17:00, which is not bridged.
+func TestRecordGaugeStages(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	gaugings := filepath.Join(dir, "g.csv")
+	body := "time,stage,discharge,quality\n2024-04-30T09:00,0.80,4.0,good\n2024-05-01T10:30,0.95,6.0,good\n2024-05-01T14:00,1.05,7.0,fair\n2024-05-03T09:00,0.60,1.9,good\n"
+	if err := os.WriteFile(gaugings, []byte(body), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := func(extra ...string) []string {
+		return append([]string{"record", recStages, "--rating", recRatingA, "--zero-flow", "0.2", "--gaugings", gaugings, "--max-gap", "4h"}, extra...)
+	}
+	out, errs, code := runCLI(t, args()...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{
+		"shift used  recorded difference\n",
+		"     0.980    -0.030!\n", // 10:30
+		"         -         -\n",  // 14:00, in the gap
+		"  1 of 2 gauge heights differ from the recorded stage by more than 0.02 m\n",
+		"warning: 2 of 4 gaugings lie outside the record's span, from 2024-05-01T00:00:00Z to 2024-05-02T23:00:00Z, and are not checked against it (1 before its first reading, 1 after its last)\n",
+		"warning: " + gaugings + ":3: gauging of 2024-05-01T10:30:00Z read gauge height 0.95 m where the record gives 0.980 m (linear between the readings of 2024-05-01T09:00:00Z (0.84 m) and 2024-05-01T12:00:00Z (1.12 m)): gauging − record = -0.030 m, more than the tolerance 0.02 m",
+		"warning: " + gaugings + ":4: gauging of 2024-05-01T14:00:00Z: no recorded stage",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("the report does not hold %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "2024-04-30T09:00") || strings.Contains(out, "2024-05-03T09:00") || strings.Count(out, "outside the record's span") != 1 {
+		t.Errorf("a gauging outside the span is listed, or the span stated more than once:\n%s", out)
+	}
+	// --stage-tolerance 0.05 takes the 0.03 m difference.
+	out, errs, code = runCLI(t, args("--stage-tolerance", "0.05")...)
+	if code != 0 || !strings.Contains(out, "     0.980    -0.030\n") || !strings.Contains(out, "0 of 2 gauge heights differ from the recorded stage by more than 0.05 m") ||
+		strings.Contains(out, "more than the tolerance") {
+		t.Errorf("--stage-tolerance 0.05: exit %d %s\n%s", code, errs, out)
+	}
+	// The workbook's gaugings sheet adds the recorded stage and the
+	// difference after its columns.
+	book := filepath.Join(dir, "r.xlsx")
+	if _, errs, code := runCLI(t, args("-o", book)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := f.GetRows(results.SheetGaugings)
+	if err != nil {
+		t.Fatal(err)
+	}
+	head := strings.Join(rows[0], "|")
+	if !strings.HasSuffix(head, "|flags|recorded stage (m)|stage difference (m)|beyond stage tolerance") {
+		t.Errorf("gaugings sheet header %q", head)
+	}
+	if len(rows) != 3 {
+		t.Fatalf("gaugings sheet rows %q", rows)
+	}
+	if r := rows[1]; len(r) < 21 || r[18] != "0.980" || r[19] != "-0.030" || r[20] != "yes" {
+		t.Errorf("gaugings sheet row %q", r)
+	}
+	// The tolerance must be a positive length, and needs the gaugings.
+	for _, bad := range [][]string{args("--stage-tolerance", "0"), args("--stage-tolerance", "-0.02"), {"record", recStages, "--rating", recRatingA, "--stage-tolerance", "0.05"}} {
+		if _, errs, code := runCLI(t, bad...); code != 2 || !strings.Contains(errs, "--stage-tolerance") {
+			t.Errorf("%q: exit %d: %s", bad, code, errs)
+		}
+	}
+}

@@ -26,11 +26,18 @@ type Options struct {
 	// (east positive); default 0 (UTC); whole seconds, at most
 	// MaxUTCOffset either way.
 	UTCOffset time.Duration
-	// Gaugings, when given, are measured against the history at their
-	// times (gauged.Rater.CheckGaugings) and reported with the record: a
-	// gauging's departure from the shifted rating is its departure from
-	// the computed record.
+	// Gaugings, when given, are set against the record: those within its
+	// span (from its first reading to its last) are measured against the
+	// history at their times (gauged.Rater.CheckGaugings; a gauging's
+	// departure from the shifted rating is its departure from the computed
+	// record) and their gauge heights against the recorded stage; those
+	// outside it are left out, and counted.
 	Gaugings []gauged.Gauging
+	// StageTolerance is the largest difference between a gauging's gauge
+	// height and the recorded stage at its time that is not flagged
+	// (length unit; > 0, finite). Default DefaultStageTolerance of
+	// UnitSystem.
+	StageTolerance float64
 	// UnitSystem labels the values in reports (default SI); nothing is
 	// converted.
 	UnitSystem rating.Units
@@ -139,9 +146,19 @@ type Result struct {
 	// UTCOffset, in which times are written.
 	MaxGap, UTCOffset time.Duration
 	Zone              *time.Location
-	// Gaugings are Options.Gaugings measured against the history; nil
-	// without gaugings.
+	// Gaugings are the Options.Gaugings within the record's span measured
+	// against the history, in input order; nil when none is.
 	Gaugings *gauged.ShiftCheck
+	// GaugeStages are the gauge heights of Gaugings.Gaugings set against
+	// the recorded stage, one per gauging in its order; nil without
+	// Gaugings.
+	GaugeStages []GaugeStage
+	// StageTolerance is the stage tolerance used (Options.StageTolerance
+	// resolved).
+	StageTolerance float64
+	// GaugingsLeftOut is the number of Options.Gaugings outside the
+	// record's span, left out of the check.
+	GaugingsLeftOut int
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 	// Figures are the record's pictures (none until drawn).
@@ -171,11 +188,21 @@ type Result struct {
 // shift diagram is split there too, the stage linear in time between its
 // readings and rated on each side with what is in force there.
 //
-// With Options.Gaugings, every gauging is measured against the history
-// (Result.Gaugings).
+// With Options.Gaugings, every gauging within the record's span (from its
+// first reading to its last, both included) is measured against the
+// history (Result.Gaugings), and its gauge height h_g against the recorded
+// stage at its time (Result.GaugeStages): the reading's at a reading's
+// time, else linear in time between the readings either side,
 //
-// Errors are a *StagesError for an unusable record and ErrMaxGap or
-// ErrUTCOffset for unusable options.
+//	h_r = hᵢ + (t − tᵢ)/(tᵢ₊₁ − tᵢ)·(hᵢ₊₁ − hᵢ),
+//
+// none in a gap longer than MaxGap (the record bridges none); a difference
+// h_g − h_r larger in size than Options.StageTolerance is warned of, with
+// the gauging's time and source, both stages and the difference. Gaugings
+// outside the span are left out and counted in one warning.
+//
+// Errors are a *StagesError for an unusable record and ErrMaxGap,
+// ErrUTCOffset or ErrStageTolerance for unusable options.
 //
 // References:
 //
@@ -191,11 +218,15 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
+	tol, err := opt.stageTolerance()
+	if err != nil {
+		return nil, err
+	}
 	st, units, codes := rateReadings(st, r, zone(off))
 	res := &Result{
 		Name: st.Name, Units: units, Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
-		Zone: zone(off), UnitSystem: opt.UnitSystem,
+		Zone: zone(off), UnitSystem: opt.UnitSystem, StageTolerance: tol,
 	}
 	res.uses(r)
 	if codes != "" {
@@ -207,13 +238,9 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)
 	if len(opt.Gaugings) > 0 {
-		check, err := r.CheckGaugings(opt.Gaugings, gauged.CheckOptions{Units: opt.UnitSystem, UTCOffset: res.UTCOffset})
-		if err != nil {
+		if err := res.checkGaugings(r, opt.Gaugings, tol); err != nil {
 			return nil, err
 		}
-		res.Gaugings = &check
-		// The check's warnings begin with the rater's, stated above.
-		res.Warnings = append(res.Warnings, check.Warnings[len(r.Warnings):]...)
 	}
 	return res, nil
 }

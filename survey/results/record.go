@@ -508,19 +508,35 @@ func joinInputs(in []string) string {
 }
 
 // writeRecordGaugingsText writes the gaugings set against the computed
-// record (the shifted rating at their times).
+// record (the shifted rating at their times) and their gauge heights
+// against the recorded stage.
 func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.ShiftCheck) {
-	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's band, its uncertainty or else its quality's):\n")
-	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %8s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift used")
-	out := 0
-	for _, g := range c.Gaugings {
-		fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %7s%s %8s\n", g.Time.In(res.Zone).Format(RecordTimeLayout), fixed(g.Stage, 3),
-			sig(g.Discharge, 4), g.Quality, sig(g.Shifted, 4), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted), fixed(g.Applied, 3))
+	L := res.UnitSystem.Length()
+	tol := strconv.FormatFloat(res.StageTolerance, 'g', -1, 64) + " " + L
+	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's band, its uncertainty or else its quality's;"+
+		" recorded = the record's stage at the gauging's time, linear between the readings either side, - in a gap not bridged; difference = stage − recorded, ! beyond ±%s):\n", tol)
+	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %10s %9s %10s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift used", "recorded", "difference")
+	out, beyond := 0, 0
+	for i, g := range c.Gaugings {
+		rec, diff, mark := math.NaN(), math.NaN(), " "
+		if i < len(res.GaugeStages) {
+			s := res.GaugeStages[i]
+			rec, diff = s.Recorded, s.Difference
+			if s.Beyond {
+				mark = "!"
+				beyond++
+			}
+		}
+		line := fmt.Sprintf("  %-25s %8s %10s %-9s %10s %7s%s %10s %9s %9s%s", g.Time.In(res.Zone).Format(RecordTimeLayout), fixed(g.Stage, 3),
+			sig(g.Discharge, 4), g.Quality, sig(g.Shifted, 4), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted), fixed(g.Applied, 3),
+			fixed(rec, 3), fixed(diff, 3), mark)
+		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 		if g.OutsideShifted {
 			out++
 		}
 	}
 	fmt.Fprintf(bw, "  %d of %d gaugings lie outside their quality bands from the record\n", out, len(c.Gaugings))
+	fmt.Fprintf(bw, "  %d of %d gauge heights differ from the recorded stage by more than %s\n", beyond, len(c.Gaugings), tol)
 }
 
 // writeDailyText writes the daily values as aligned columns.

@@ -68,7 +68,10 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 //   - shifts: the diagrams used in the columns of a shift table
 //     (survey.ShiftColumns(), times as ISO 8601 text with their offset),
 //     so the sheet reads back as shift diagrams, and the rating period;
-//   - gaugings: each gauging against the record, when given;
+//   - gaugings: each gauging within the record's span against the record,
+//     when given, its recorded stage and the difference stage − recorded
+//     after the columns of the shifts workbook's gaugings sheet
+//     (recorded_stage, stage_difference, beyond_stage_tolerance);
 //   - plots: the figures, when drawn.
 //
 // A table too long for a sheet is refused before anything is written
@@ -96,7 +99,7 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 	})
 	if res.Gaugings != nil {
 		steps = append(steps, func(b *workbook.Book, res *record.Result) error {
-			return writeShiftGaugingsSheet(b, res.Gaugings, res.Zone)
+			return writeShiftGaugingsSheet(b, res.Gaugings, res.Zone, res.GaugeStages)
 		})
 	}
 	for _, step := range steps {
@@ -166,6 +169,17 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 			}
 		}
 		items = append(items, SummaryItem{"gaugings outside their quality bands from the record", fmt.Sprintf("%d of %d", out, len(c.Gaugings)), ""})
+		beyond := 0
+		for _, s := range res.GaugeStages {
+			if s.Beyond {
+				beyond++
+			}
+		}
+		items = append(items, SummaryItem{"gauge heights differing from the recorded stage by more than the tolerance", fmt.Sprintf("%d of %d", beyond, len(c.Gaugings)), ""},
+			SummaryItem{"stage tolerance", res.StageTolerance, u.Length()})
+	}
+	if res.GaugingsLeftOut > 0 {
+		items = append(items, SummaryItem{"gaugings outside the record's span, not checked", res.GaugingsLeftOut, ""})
 	}
 	items = append(items, SummaryItem{"provisional", record.ProvisionalNote, ""})
 	return WriteSummarySheet(b, SheetSummary, items, res.Warnings)
@@ -310,11 +324,13 @@ func writeShiftsSheet(b *workbook.Book, name string, ss []shiftInfo, z *time.Loc
 }
 
 // writeShiftGaugingsSheet writes each gauging against the ratings in
-// force, with its shifts, in input order.
-func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Location) error {
+// force, with its shifts, in input order; with stages (a record's, one per
+// gauging), its recorded stage, the difference and whether it is beyond
+// the tolerance after them.
+func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Location, stages []record.GaugeStage) error {
 	u := c.Units
 	L, Q := u.Length(), u.Discharge()
-	s, err := b.Table(SheetGaugings, []workbook.Column{
+	cols := []workbook.Column{
 		{Name: "time", Format: workbook.FormatDateTime, Width: 17},
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "discharge", Unit: Q, Format: workbook.FormatSig3},
@@ -333,7 +349,13 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 		{Name: "visit", Format: "0"},
 		{Name: "source", Width: textWidth, Wrap: true},
 		{Name: "flags", Width: 12},
-	})
+	}
+	if stages != nil {
+		cols = append(cols, workbook.Column{Name: "recorded_stage", Unit: L, Format: "0.000"},
+			workbook.Column{Name: "stage_difference", Unit: L, Format: "0.000"},
+			workbook.Column{Name: "beyond_stage_tolerance"})
+	}
+	s, err := b.Table(SheetGaugings, cols)
 	if err != nil {
 		return err
 	}
@@ -343,8 +365,12 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 		if g.Period >= 0 {
 			period = g.Period + 1
 		}
-		if err := s.Row(wallClock(g.Time, z), g.Stage, g.Discharge, g.Quality.String(), g.Note, period, g.Rated, g.Departure, yes(g.Outside),
-			g.Shift, g.Applied, g.Residual, g.Shifted, g.ShiftedDeparture, yes(g.OutsideShifted), visit[i]+1, g.Source, gaugingFlags(g).String()); err != nil {
+		row := []any{wallClock(g.Time, z), g.Stage, g.Discharge, g.Quality.String(), g.Note, period, g.Rated, g.Departure, yes(g.Outside),
+			g.Shift, g.Applied, g.Residual, g.Shifted, g.ShiftedDeparture, yes(g.OutsideShifted), visit[i] + 1, g.Source, gaugingFlags(g).String()}
+		if i < len(stages) {
+			row = append(row, stages[i].Recorded, stages[i].Difference, yes(stages[i].Beyond))
+		}
+		if err := s.Row(row...); err != nil {
 			return err
 		}
 	}

@@ -262,7 +262,7 @@ func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
 	if err := writeShiftsSummary(b, c, ps, ss, z); err != nil {
 		return err
 	}
-	if err := writeShiftGaugingsSheet(b, c, z); err != nil {
+	if err := writeShiftGaugingsSheet(b, c, z, nil); err != nil {
 		return err
 	}
 	var props []shiftInfo
