@@ -355,7 +355,14 @@ func (f *fitFlags) checkSources(fs *flagSet) error {
 	if err := checkSlope("fit", f.slope); err != nil {
 		return err
 	}
-	return fs.positive("step", "segments", "controls", "n-cv", "slope-cv", "crest-cv", "draws", "chains")
+	if err := fs.positive("step", "segments", "controls", "n-cv", "slope-cv", "crest-cv", "draws", "chains"); err != nil {
+		return err
+	}
+	if f.chains > gauged.MaxChains || f.draws > gauged.MaxKeptDraws || f.chains*(f.draws+gauged.DefaultPilot) > gauged.MaxKeptDraws {
+		return usagef("fit: --chains %d --draws %d: at most %d chains and %d draws in all, pilot iterations (%d a chain) included",
+			f.chains, f.draws, gauged.MaxChains, gauged.MaxKeptDraws, gauged.DefaultPilot)
+	}
+	return nil
 }
 
 // controlOptions reads --controls (or --segments), --breaks, --kinds and

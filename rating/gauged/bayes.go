@@ -34,6 +34,12 @@ const (
 	// MaxBandDraws bounds the posterior draws the bands are computed
 	// from (evenly thinned when there are more).
 	MaxBandDraws = 8000
+	// MaxChains bounds the number of chains.
+	MaxChains = 64
+	// MaxKeptDraws bounds the draws kept over all chains (chains × draws,
+	// pilot iterations included): each keeps every parameter, so the
+	// largest posterior (4 controls, 14 parameters) takes about 0.3 GB.
+	MaxKeptDraws = 2_000_000
 	// modeGap is how far, in log posterior, a local mode may lie below
 	// the best one and still start a chain.
 	modeGap = 4.0
@@ -385,6 +391,8 @@ func (o *BayesOptions) check() error {
 	switch {
 	case o.Chains < 1 || o.Draws < 4:
 		return fmt.Errorf("%w: %d chains of %d draws (at least 1 chain of 4 draws)", ErrBayesOptions, o.Chains, o.Draws)
+	case o.Chains > MaxChains || o.Draws > MaxKeptDraws || o.Pilot > MaxKeptDraws || o.Chains*(o.Draws+o.Pilot) > MaxKeptDraws:
+		return fmt.Errorf("%w: %d chains of %d draws after %d pilot iterations: at most %d chains and %d draws in all", ErrBayesOptions, o.Chains, o.Draws, o.Pilot, MaxChains, MaxKeptDraws)
 	case !(o.RemnantMedian > 0) || !(o.RemnantLogSD > 0) || math.IsInf(o.RemnantMedian, 0) || math.IsInf(o.RemnantLogSD, 0):
 		return fmt.Errorf("%w: remnant prior median %g, log sd %g", ErrBayesOptions, o.RemnantMedian, o.RemnantLogSD)
 	case o.RemnantFixed && !(o.Remnant >= 0 && !math.IsInf(o.Remnant, 0)):
