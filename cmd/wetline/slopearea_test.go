@@ -110,6 +110,8 @@ func TestSlopeAreaBadReach(t *testing.T) {
 		{"no marks on a row", head + "A,a.csv,0,,\nB,a.csv,100,10.9,\n", nil, 1, "reach.csv:2:4: ws_left: give a high-water mark in ws_left or ws_right"},
 		{"listed downstream first", head + "C,a.csv,200,10.8,\nB,a.csv,100,10.9,\nA,a.csv,0,11,\n", nil, 1,
 			"reach.csv:3:3: distance \"100\": distances must increase downstream, row by row (100 after 200): the table lists its sections downstream first"},
+		{"middle mark raised by a blunder", head + "A,a.csv,0,11,\nB,a.csv,100,11.6,\nC,a.csv,200,10.8,\n", nil, 1,
+			"reach.csv: subreach A to B: at the reach's computed "},
 		{"survey outside the folder", head + "A,a.csv,0,11,\nB,../a.csv,100,10.9,\n", nil, 1, "give --surveys-anywhere to allow it"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

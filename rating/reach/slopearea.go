@@ -284,6 +284,10 @@ var (
 	ErrFall            = errors.New("the water surface must fall from the first section to the last")
 	ErrDrySection      = errors.New("the ground is entirely above the water surface")
 	ErrNoReachSolution = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
+	// ErrEnergyGain is the cause of a reach refused because, at its
+	// computed discharge, the marks of a subreach leave no positive
+	// friction loss (see SolveSlopeArea).
+	ErrEnergyGain = errors.New("no real flow gains energy downstream: the marks of this subreach fit no discharge; check them, or leave the section out")
 )
 
 // SectionError reports a problem with one section of a reach.
@@ -424,7 +428,10 @@ func saSubreachTerm(l float64, up, dn *saSectionState, u rating.Units) (term flo
 	return l/(up.k*dn.k) - (1-k)*dc/(2*u.Gravity()), expanding
 }
 
-// saReachQ solves the whole reach for the water surfaces ws and states sts.
+// saReachQ solves the whole reach for the water surfaces ws and states
+// sts. At the discharge found, every subreach must keep a positive
+// friction loss (saFrictionLoss); otherwise the discharge is returned with
+// ErrEnergyGain (bare: SolveSlopeArea names the subreach).
 func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units) (float64, error) {
 	var den float64
 	for j := 0; j+1 < len(secs); j++ {
@@ -438,7 +445,62 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 	if !(den > 0) {
 		return math.NaN(), ErrNoReachSolution
 	}
-	return math.Sqrt(fall / den), nil
+	q := math.Sqrt(fall / den)
+	if saGainingSubreach(ws, sts, q, u) >= 0 {
+		return q, ErrEnergyGain
+	}
+	return q, nil
+}
+
+// saFrictionLoss returns the friction loss that the water surfaces of
+// subreach j (sections j and j+1) leave at discharge q: the drop of the
+// energy grade less the eddy loss,
+//
+//	hf = (hu + hvu) − (hd + hvd) − k·(hvu − hvd) = F + (1−k)·(hvu − hvd),
+//
+// with k and the velocity-head change as in saSubreachTerm. Over the
+// whole reach these add up to Q²·Σ L/(Ku·Kd), which is positive; a
+// subreach alone may come out at zero or below.
+func saFrictionLoss(j int, ws []float64, sts []saSectionState, q float64, u rating.Units) float64 {
+	up, dn := &sts[j], &sts[j+1]
+	dc := headChange(up.c, dn.c)
+	k := ContractingEddyK
+	if dc > 0 {
+		k = ExpandingEddyK
+	}
+	return ws[j] - ws[j+1] + (1-k)*dc*q*q/(2*u.Gravity())
+}
+
+// saGainingSubreach returns the first subreach whose friction loss at q
+// (saFrictionLoss) is not above the round-off of its water surfaces
+// (roundOffSlack), or −1 when every subreach loses energy to friction.
+func saGainingSubreach(ws []float64, sts []saSectionState, q float64, u rating.Units) int {
+	for j := 0; j+1 < len(ws); j++ {
+		if !(saFrictionLoss(j, ws, sts, q, u) > roundOffSlack(ws[j], ws[j+1])) {
+			return j
+		}
+	}
+	return -1
+}
+
+// saEnergyGainError names subreach j of a reach refused with
+// ErrEnergyGain: the energy grades of its two sections at the computed
+// discharge q, their rise (or a fall smaller than the eddy loss), and the
+// friction loss the marks leave.
+func saEnergyGainError(secs []Section, ws []float64, sts []saSectionState, q float64, u rating.Units, j int) error {
+	g2 := 2 * u.Gravity()
+	eu := ws[j] + sts[j].c*q*q/g2
+	ed := ws[j+1] + sts[j+1].c*q*q/g2
+	hf := saFrictionLoss(j, ws, sts, q, u)
+	L := u.Length()
+	how := fmt.Sprintf("the energy grade rises %.3f %s downstream, from %.3f %s at %s to %.3f %s at %s",
+		ed-eu, L, eu, L, secs[j].ID, ed, L, secs[j+1].ID)
+	if ed < eu {
+		how = fmt.Sprintf("the energy grade falls only %.3f %s, from %.3f %s at %s to %.3f %s at %s, no more than the eddy loss",
+			eu-ed, L, eu, L, secs[j].ID, ed, L, secs[j+1].ID)
+	}
+	return fmt.Errorf("subreach %s to %s: at the reach's computed %s %s %s, a friction loss of %.3f %s: %w",
+		secs[j].ID, secs[j+1].ID, saSig(q), u.Discharge(), how, hf, L, ErrEnergyGain)
 }
 
 // SolveSlopeArea computes the peak discharge of a reach of two or more
@@ -474,6 +536,29 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 // choice of k in each subreach depends only on the geometry (αu/Au² against
 // αd/Ad²), so no iteration is needed.
 //
+// Each subreach must lose energy at the computed discharge. The whole-reach
+// form balances only the sum of the subreach equations, so marks that are
+// impossible in one subreach (a mark raised by a blunder, so that the
+// energy grade rises downstream through it) still give a positive Q²: the
+// other subreaches pay for it, and the discharge is an artefact of the
+// blunder, not an estimate of the flow. The method rests on the energy
+// equation above with losses that are never negative: the friction loss
+// hf = Q²·L/(Ku·Kd) is positive and the eddy loss is zero or more, so in
+// a real flow the energy grade falls through every subreach by more than
+// its eddy loss (Dalrymple & Benson, 1967; Chow, 1959, section 10-1).
+// A reach whose water surface rises from end to end is refused (ErrFall);
+// for the same reason a reach is refused where, at its computed
+// discharge, the water surfaces of a subreach leave a friction loss
+// F + (1−k)·(hvu − hvd) of zero or less (within the round-off of the
+// elevations, RoundOffRelative), wrapping ErrEnergyGain and naming the
+// subreach, its energy grades and the friction loss left. This project
+// refuses rather than warns (its reading of the method): a figure that no
+// real flow could give is not a flood peak to be read with a warning
+// beside it, and a refusal writes nothing that could be quoted. A subreach
+// whose water surface rises but whose energy grade still falls by more
+// than its eddy loss (recovery of velocity head in an expansion) is a real
+// flow and is solved, with the checks' warnings.
+//
 // References:
 //
 //	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
@@ -482,8 +567,8 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 //	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
 //
 // Errors are *SectionError for a section at fault (distance not
-// increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
-// ErrNoReachSolution.
+// increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall,
+// ErrNoReachSolution or ErrEnergyGain.
 func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	u := opt.Units
 	res := SlopeArea{Method: MethodSlopeArea, Units: u, Side: opt.Side,
@@ -502,6 +587,9 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 			secs[0].ID, ws[0], u.Length(), secs[len(secs)-1].ID, ws[len(ws)-1], u.Length())
 	}
 	q, err := saReachQ(secs, ws, sts, u)
+	if errors.Is(err, ErrEnergyGain) {
+		return res, saEnergyGainError(secs, ws, sts, q, u, saGainingSubreach(ws, sts, q, u))
+	}
 	if err != nil {
 		return res, err
 	}
@@ -530,7 +618,7 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 		if math.IsNaN(sr.Discharge) {
 			res.SubreachMin, res.SubreachMax = math.NaN(), math.NaN()
 			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"subreach %s to %s alone has no real discharge (fall %.3f %s): only the whole reach gives one",
+				"subreach %s to %s alone has no real discharge (fall %.3f %s): the reach's discharge rests on the other subreaches; review its marks",
 				sr.From, sr.To, sr.Fall, u.Length()))
 		} else {
 			res.SubreachMin = math.Min(res.SubreachMin, sr.Discharge)

@@ -700,3 +700,64 @@ func TestSlopeAreaSubreachLength(t *testing.T) {
 		})
 	}
 }
+
+// A prismatic rectangle in uniform flow, with one mark moved. Unmoved,
+// the slope-area discharge is Manning's uniform flow Q = (1/n)·A·R^⅔·√S
+// (Chow 1959, eq. 6-9; closed form). A mark raised or lowered so far that
+// the energy grade of a subreach no longer falls by more than its eddy
+// loss is refused, naming that subreach, though the whole reach still
+// falls and would give a discharge (a middle mark 0.8 m high gave 1.4
+// times the true peak); a mark moved less is still a real flow and solves.
+func TestSlopeAreaEnergyGain(t *testing.T) {
+	const (
+		width, depth, n, slope, length = 6.0, 1.2, 0.03, 0.002, 250.0
+	)
+	a := width * depth
+	r := a / (width + 2*depth)
+	manning := a * math.Pow(r, 2.0/3.0) * math.Sqrt(slope) / n // Chow 1959, eq. 6-9
+	for _, tc := range []struct {
+		name     string
+		at       int     // the section whose marks move
+		move     float64 // how far they move (m)
+		subreach string  // the subreach refused; "" for a solution
+		q        float64 // the discharge wanted when solved (0: not checked)
+	}{
+		{"uniform flow", 1, 0, "", manning},
+		{"middle mark a little high", 1, 0.1, "", 0},
+		{"middle mark raised by a blunder", 1, 0.8, "A to B", 0},
+		{"middle mark lowered by a blunder", 1, -0.8, "B to C", 0},
+		{"last mark raised by a blunder", 2, 0.6, "B to C", 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var secs []Section
+			for i, id := range []string{"A", "B", "C"} {
+				bed := 100 - slope*length*float64(i)
+				ws := bed + depth
+				if i == tc.at {
+					ws += tc.move
+				}
+				secs = append(secs, Section{ID: id, Geometry: saTrapezoid(t, width, 0, bed, 5, n),
+					Distance: length * float64(i), Left: ws, Right: ws})
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if tc.subreach == "" {
+				if err != nil {
+					t.Fatalf("refused: %v", err)
+				}
+				if tc.q > 0 && saRelErr(res.Discharge, tc.q) > saClosedFormTol {
+					t.Errorf("Q = %.9g, Manning's uniform flow %.9g", res.Discharge, tc.q)
+				}
+				return
+			}
+			if !errors.Is(err, ErrEnergyGain) {
+				t.Fatalf("got Q %g, error %v; want ErrEnergyGain", res.Discharge, err)
+			}
+			if msg := err.Error(); !strings.HasPrefix(msg, "subreach "+tc.subreach+": ") || strings.Contains(msg, "\n") {
+				t.Errorf("error %q: want one line naming subreach %s first", msg, tc.subreach)
+			}
+			if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 100}); !errors.Is(err, ErrEnergyGain) {
+				t.Errorf("MonteCarlo: %v, want ErrEnergyGain", err)
+			}
+		})
+	}
+}
