@@ -244,6 +244,7 @@ type Subreach struct {
 	// Expanding reports a velocity head falling downstream (by more than
 	// VelocityHeadTolerance of it); EddyK is the
 	// eddy-loss coefficient applied (ExpandingEddyK or ContractingEddyK).
+	// The method Flow says which in a word, or uniform.
 	Expanding bool
 	EddyK     float64
 	// At the reach discharge: FrictionLoss Q²L/(KuKd), VelocityHeadChange
@@ -251,6 +252,30 @@ type Subreach struct {
 	FrictionLoss, VelocityHeadChange, EddyLoss float64
 	// ConveyanceRatio is Kd/Ku.
 	ConveyanceRatio float64
+}
+
+// Words of Subreach.Flow.
+const (
+	FlowExpanding   = "expanding"
+	FlowContracting = "contracting"
+	FlowUniform     = "uniform"
+)
+
+// Flow says how the velocity head changes through the subreach:
+// FlowExpanding where it falls downstream, FlowContracting where it rises,
+// and FlowUniform where the two velocity heads are equal within
+// VelocityHeadTolerance of the larger (VelocityHeadChange is then 0): a
+// prismatic reach at one depth, which neither expands nor contracts. A
+// uniform subreach takes the contracting coefficient, which makes no
+// difference there (the eddy loss k·0 is 0 for any k).
+func (s Subreach) Flow() string {
+	switch {
+	case s.Expanding:
+		return FlowExpanding
+	case s.VelocityHeadChange == 0:
+		return FlowUniform
+	}
+	return FlowContracting
 }
 
 // Check is one quality check of a slope-area reach.
@@ -402,7 +427,11 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 // VelocityHeadTolerance is the relative difference, of the larger of two
 // velocity heads, below which they count as equal: sections of the same
 // shape at the same depth differ by round-off only, and their subreach
-// neither expands nor contracts.
+// neither expands nor contracts (Subreach.Flow is FlowUniform). It is far
+// above round-off (about 1e-16 of a value, a few times that after the
+// depth is taken from elevations of a hundred metres) and far below any
+// difference a survey can show (1e-9 of a velocity head of 1 m is a
+// micrometre).
 const VelocityHeadTolerance = 1e-9
 
 // headChange returns up − dn, or 0 where the two differ by no more than
@@ -726,7 +755,7 @@ const (
 		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
-	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
+	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory); no change (uniform) passes"
 	srcMarks     = "left and right marks within the mark-spread tolerance (project default, common practice)"
 )
 
@@ -768,9 +797,10 @@ func saCheckList(res *SlopeArea) []Check {
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
-			// The value is the change in velocity head downstream: a
-			// rise means the flow expands.
-			cs = append(cs, Check{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+			// The value is the drop in velocity head downstream, hvu − hvd:
+			// above 0 the flow expands, 0 is uniform (within
+			// VelocityHeadTolerance), below 0 it contracts.
+			cs = append(cs, Check{Name: "velocity-head drop " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}

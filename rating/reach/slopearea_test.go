@@ -311,7 +311,7 @@ func TestSlopeAreaChecks(t *testing.T) {
 	for name, pass := range map[string]bool{
 		"mark spread A":              false,
 		"mark spread B":              true,
-		"contracting A to B":         false,
+		"velocity-head drop A to B":  false,
 		"reach length vs mean depth": false,
 		"fall A to B":                false, // fall 0.1 m < 0.15 m
 		"sections in the reach":      false, // two sections
@@ -578,13 +578,13 @@ func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, sr := range res.Subreaches {
-		if sr.Expanding || sr.VelocityHeadChange != 0 || sr.EddyLoss != 0 {
+		if sr.Expanding || sr.VelocityHeadChange != 0 || sr.EddyLoss != 0 || sr.Flow() != FlowUniform {
 			t.Errorf("%s to %s: expanding %v, velocity-head change %g, eddy loss %g: want not expanding, 0, 0",
 				sr.From, sr.To, sr.Expanding, sr.VelocityHeadChange, sr.EddyLoss)
 		}
 	}
 	for _, c := range res.Checks {
-		if strings.HasPrefix(c.Name, "contracting") && (!c.Pass || c.Value != 0) {
+		if strings.HasPrefix(c.Name, "velocity-head drop") && (!c.Pass || c.Value != 0) {
 			t.Errorf("check %s: value %g, pass %v", c.Name, c.Value, c.Pass)
 		}
 	}
@@ -759,5 +759,23 @@ func TestSlopeAreaEnergyGain(t *testing.T) {
 				t.Errorf("MonteCarlo: %v, want ErrEnergyGain", err)
 			}
 		})
+	}
+}
+
+// A subreach is labelled by the change of its velocity head downstream:
+// a fall expands, a rise contracts, none (within VelocityHeadTolerance,
+// where VelocityHeadChange is 0) is uniform, not contracting.
+func TestSubreachFlow(t *testing.T) {
+	for _, tc := range []struct {
+		sr   Subreach
+		want string
+	}{
+		{Subreach{Expanding: true, VelocityHeadChange: 0.3}, FlowExpanding},
+		{Subreach{VelocityHeadChange: -0.3}, FlowContracting},
+		{Subreach{VelocityHeadChange: 0}, FlowUniform},
+	} {
+		if got := tc.sr.Flow(); got != tc.want {
+			t.Errorf("%+v: %s, want %s", tc.sr, got, tc.want)
+		}
 	}
 }

@@ -45,6 +45,7 @@ type jsonSubreach struct {
 	VelocityHeadChange Float  `json:"velocity_head_change"`
 	EddyLoss           Float  `json:"eddy_loss"`
 	ConveyanceRatio    Float  `json:"conveyance_ratio"`
+	Flow               string `json:"flow"`
 }
 
 type jsonCheck struct {
@@ -81,7 +82,8 @@ type jsonUncertainty struct {
 // "warnings":[...],"caution"}. Each section holds "subsections", its
 // subsections at the peak discharge (from_station, to_station, region, n,
 // area, wetted_perimeter, top_width, conveyance, discharge, mean_velocity,
-// as in WriteRatingJSON). In "uncertainty", "dq_dn" is the change of
+// as in WriteRatingJSON). Each subreach ends with "flow", "expanding",
+// "contracting" or "uniform" (reach.Subreach.Flow). In "uncertainty", "dq_dn" is the change of
 // discharge per unit change of every n together (discharge unit per 1 of
 // n) and "dq_dn_per_0_001_n" the same per 0.001 of n, as the text report
 // quotes it; "dq_dh" is per length unit of each water surface. Undefined
@@ -127,7 +129,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		out.Subreaches = append(out.Subreaches, jsonSubreach{From: s.From, To: s.To, Length: Float(s.Length),
 			Fall: Float(s.Fall), Discharge: Float(s.Discharge), Expanding: s.Expanding, EddyK: Float(s.EddyK),
 			FrictionLoss: Float(s.FrictionLoss), VelocityHeadChange: Float(s.VelocityHeadChange),
-			EddyLoss: Float(s.EddyLoss), ConveyanceRatio: Float(s.ConveyanceRatio)})
+			EddyLoss: Float(s.EddyLoss), ConveyanceRatio: Float(s.ConveyanceRatio), Flow: s.Flow()})
 	}
 	for _, c := range r.Checks {
 		out.Checks = append(out.Checks, jsonCheck{Name: c.Name, Value: Float(c.Value), Limit: Float(c.Limit),
@@ -327,11 +329,7 @@ func saTextSubreaches(t *textReport, r reach.SlopeArea) {
 	var rows [][]string
 	dec := lengthDecimals(saDistances(r)...)
 	for _, s := range r.Subreaches {
-		kind := "contracting"
-		if s.Expanding {
-			kind = "expanding"
-		}
-		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), s.Flow(),
 			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 	}
 	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)

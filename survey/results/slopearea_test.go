@@ -133,3 +133,43 @@ func TestSlopeAreaTextLengthDecimals(t *testing.T) {
 		})
 	}
 }
+
+// A subreach whose velocity heads are equal (no change) reads uniform in
+// the text and JSON reports, not contracting; expanding and contracting
+// ones keep their words.
+func TestSlopeAreaFlowWords(t *testing.T) {
+	nan := math.NaN()
+	res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
+		SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan,
+		Subreaches: []reach.Subreach{
+			{From: "A", To: "B", Discharge: nan, VelocityHeadChange: 0},
+			{From: "B", To: "C", Discharge: nan, VelocityHeadChange: -0.2},
+			{From: "C", To: "D", Discharge: nan, VelocityHeadChange: 0.2, Expanding: true, EddyK: 0.5},
+		}}
+	var text, js bytes.Buffer
+	if err := results.WriteSlopeAreaText(&text, reach.Report{Result: res}); err != nil {
+		t.Fatal(err)
+	}
+	if err := results.WriteSlopeAreaJSON(&js, reach.Report{Result: res}); err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []string{"uniform", "contracting", "expanding"} {
+		sr := res.Subreaches[i]
+		found := false
+		for _, line := range strings.Split(text.String(), "\n") {
+			f := strings.Fields(line)
+			if len(f) > 5 && strings.Join(f[:3], " ") == sr.From+" to "+sr.To {
+				found = true
+				if f[6] != want {
+					t.Errorf("text row %q: flow %q, want %q", line, f[6], want)
+				}
+			}
+		}
+		if !found {
+			t.Errorf("no text row for %s to %s", sr.From, sr.To)
+		}
+		if n := strings.Count(js.String(), `"flow": "`+want+`"`); n != 1 {
+			t.Errorf("JSON has %d subreaches of flow %q, want 1", n, want)
+		}
+	}
+}

@@ -215,11 +215,7 @@ func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 		return err
 	}
 	for _, sr := range rep.Result.Subreaches {
-		flow := "contracting"
-		if sr.Expanding {
-			flow = "expanding"
-		}
-		if err := s.Row(sr.From, sr.To, sr.Length, sr.Fall, sr.Discharge, flow, sr.EddyK,
+		if err := s.Row(sr.From, sr.To, sr.Length, sr.Fall, sr.Discharge, sr.Flow(), sr.EddyK,
 			sr.FrictionLoss, sr.VelocityHeadChange, sr.EddyLoss, sr.ConveyanceRatio); err != nil {
 			return err
 		}
