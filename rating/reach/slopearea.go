@@ -346,7 +346,7 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		case RightSide:
 			return r, 1, ""
 		}
-		return (l + r) / 2, 2, ""
+		return rating.DecimalMean(l, r), 2, "" // 407.415, not 407.41499999999996
 	case hasL:
 		switch side {
 		case RightSide:
@@ -609,8 +609,10 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	if err != nil {
 		return res, err
 	}
-	res.Fall = ws[0] - ws[len(ws)-1]
-	res.Length = secs[len(secs)-1].Distance - secs[0].Distance
+	// Differences of inputs are the decimals a hand calculation gives
+	// (a fall of 1.43, not 1.42999999999995), for every report.
+	res.Fall = rating.DecimalDifference(ws[0], ws[len(ws)-1])
+	res.Length = rating.DecimalDifference(secs[len(secs)-1].Distance, secs[0].Distance)
 	if !(res.Fall > 0) {
 		return res, fmt.Errorf("%w: %s at %.3f %s, %s at %.3f %s", ErrFall,
 			secs[0].ID, ws[0], u.Length(), secs[len(secs)-1].ID, ws[len(ws)-1], u.Length())
@@ -627,10 +629,10 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	res.SubreachMin, res.SubreachMax = math.Inf(1), math.Inf(-1)
 	for j := 0; j+1 < len(secs); j++ {
 		up, dn := &res.Sections[j], &res.Sections[j+1]
-		l := secs[j+1].Distance - secs[j].Distance
+		l := rating.DecimalDifference(secs[j+1].Distance, secs[j].Distance)
 		term, expanding := saSubreachTerm(l, &sts[j], &sts[j+1], u)
 		sr := Subreach{From: secs[j].ID, To: secs[j+1].ID, FromIndex: j, ToIndex: j + 1,
-			Length: l, Fall: ws[j] - ws[j+1], Expanding: expanding, Discharge: math.NaN(),
+			Length: l, Fall: rating.DecimalDifference(ws[j], ws[j+1]), Expanding: expanding, Discharge: math.NaN(),
 			ConveyanceRatio: sts[j+1].k / sts[j].k}
 		if x := sr.Fall / term; x > 0 && !math.IsInf(x, 0) {
 			sr.Discharge = math.Sqrt(x)
@@ -664,12 +666,9 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	return res, nil
 }
 
-func saSig(v float64) string {
-	if math.IsNaN(v) {
-		return "-"
-	}
-	return fmt.Sprintf("%.4g", v)
-}
+// saSig writes a discharge or a check's value for a warning or an error:
+// four significant figures in plain decimal (rating.PlainFigures).
+func saSig(v float64) string { return rating.PlainFigures(v, 4) }
 
 // saPrepare validates the sections, takes their water surfaces and wets
 // them. Warnings about marks and end extension go on res.
@@ -812,7 +811,7 @@ func saCheckList(res *SlopeArea) []Check {
 		if math.IsNaN(s.Left) || math.IsNaN(s.Right) {
 			continue
 		}
-		d := math.Abs(s.Left - s.Right)
+		d := math.Abs(rating.DecimalDifference(s.Left, s.Right))
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread+roundOffSlack(s.Left, s.Right), Source: srcMarks})
 	}

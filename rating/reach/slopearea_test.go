@@ -779,3 +779,43 @@ func TestSubreachFlow(t *testing.T) {
 		}
 	}
 }
+
+// Water surfaces, falls, lengths and mark spreads are the decimals a hand
+// calculation from the marks and distances gives, not their binary
+// round-off: the mean of 407.45 and 407.38 is 407.415, and the fall from
+// it to the mean of 405.95 and 406.02 is 1.43, not 1.42999999999995
+// (hand-computed).
+func TestSlopeAreaDifferencesAsDecimals(t *testing.T) {
+	g := saTrapezoid(t, 20, 2, 400, 12, 0.04)
+	secs := []Section{
+		{ID: "A", Geometry: g, Distance: 0.1, Left: 407.45, Right: 407.38},
+		{ID: "B", Geometry: g, Distance: 320.3, Left: 406.95, Right: 407.05},
+		{ID: "C", Geometry: g, Distance: 900.7, Left: 405.95, Right: 406.02},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: rating.US})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"water surface A", res.Sections[0].WaterSurface, 407.415},
+		{"water surface C", res.Sections[2].WaterSurface, 405.985},
+		{"reach fall", res.Fall, 1.43},
+		{"reach length", res.Length, 900.6},
+		{"fall A to B", res.Subreaches[0].Fall, 0.415},
+		{"fall B to C", res.Subreaches[1].Fall, 1.015},
+		{"length A to B", res.Subreaches[0].Length, 320.2},
+		{"length B to C", res.Subreaches[1].Length, 580.4},
+	} {
+		if tc.got != tc.want {
+			t.Errorf("%s: %.17g, want %.17g", tc.name, tc.got, tc.want)
+		}
+	}
+	for _, c := range res.Checks {
+		if c.Name == "mark spread A" && c.Value != 0.07 {
+			t.Errorf("mark spread A: %.17g, want 0.07", c.Value)
+		}
+	}
+}

@@ -210,14 +210,14 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	}
 	t.b.WriteString(siteLine(rep.Provenance))
 	t.line("")
-	t.line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
+	t.line("Peak discharge  %s %s", rating.PlainFigures(r.Discharge, 4), Q)
 	switch un := rep.Uncertainty; {
 	case un == nil:
 	case un.Failed >= un.Draws:
 		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
 	default:
 		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
-			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
+			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), un.Draws-un.Failed)
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
@@ -239,12 +239,12 @@ func saSubreachWords(r reach.SlopeArea) string {
 		if math.IsNaN(sr.Discharge) {
 			failed = append(failed, sr.From+" to "+sr.To)
 		} else {
-			solved = append(solved, fmt.Sprintf("%s to %s %s %s", sr.From, sr.To, sig(sr.Discharge, 4), Q))
+			solved = append(solved, fmt.Sprintf("%s to %s %s %s", sr.From, sr.To, rating.PlainFigures(sr.Discharge, 4), Q))
 		}
 	}
 	switch {
 	case len(failed) == 0:
-		return fmt.Sprintf("%s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+		return fmt.Sprintf("%s to %s %s alone (spread %s %% of the peak)", rating.PlainFigures(r.SubreachMin, 4), rating.PlainFigures(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
 	case len(solved) == 0:
 		return fmt.Sprintf("none has a real discharge alone (%s): only the whole reach gives one", strings.Join(failed, ", "))
 	}
@@ -311,7 +311,7 @@ func saTextSubsections(t *textReport, r reach.SlopeArea) {
 	for _, s := range r.Sections {
 		for k, sub := range s.Subs {
 			rows = append(rows, []string{s.ID, fmt.Sprint(k + 1), sub.Region.String(), fixed(sub.From, 1) + " to " + fixed(sub.To, 1),
-				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), sig(sub.Discharge, 4), fixed(sub.Velocity, 2)})
+				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), rating.PlainFigures(sub.Discharge, 4), fixed(sub.Velocity, 2)})
 		}
 	}
 	t.table(fmt.Sprintf("section\tsubsection\tregion\tstations %s\tn\tarea %s\tconveyance %s\tdischarge %s\tvelocity %s",
@@ -329,7 +329,7 @@ func saTextSubreaches(t *textReport, r reach.SlopeArea) {
 	var rows [][]string
 	dec := lengthDecimals(saDistances(r)...)
 	for _, s := range r.Subreaches {
-		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), s.Flow(),
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), rating.PlainFigures(s.Discharge, 4), s.Flow(),
 			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 	}
 	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)
@@ -348,7 +348,7 @@ func saTextChecks(t *textReport, r reach.SlopeArea) {
 	t.line("Quality checks (%d of %d pass)", pass, len(r.Checks))
 	var rows [][]string
 	for _, c := range r.Checks {
-		rows = append(rows, []string{c.Status(), c.Name, sig(c.Value, 4) + " " + c.Relation + " " + sig(c.Limit, 4), c.Source})
+		rows = append(rows, []string{c.Status(), c.Name, rating.PlainFigures(c.Value, 4) + " " + c.Relation + " " + rating.PlainFigures(c.Limit, 4), c.Source})
 	}
 	t.table("status\tcheck\tvalue vs limit\tsource", rows)
 }
@@ -372,9 +372,9 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 		}
 	}
 	t.line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
-	t.line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
+	t.line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P50, 4), rating.PlainFigures(un.P95, 4), rating.PlainFigures(un.Mean, 4), rating.PlainFigures(un.SD, 4), Q)
 	t.line("  draws          %d, %d without a solution", un.Draws, un.Failed)
-	t.line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDNPerMilli, 4), Q)
+	t.line("  dQ/dn          %s %s per 0.001 of every n", rating.PlainFigures(un.DQDNPerMilli, 4), Q)
 	parts := make([]string, len(un.DQDH))
 	for i, v := range un.DQDH {
 		id := ""

@@ -173,3 +173,27 @@ func TestSlopeAreaFlowWords(t *testing.T) {
 		}
 	}
 }
+
+// The console summaries write discharges in plain decimal to four
+// significant figures, never with an exponent: 1362 ft3/s, band 1178 to
+// 1558, not 1.36e+03 (1.18e+03 to 1.56e+03); a rating's top discharge
+// 4184, not 4.18e+03.
+func TestSummaryDischargesPlain(t *testing.T) {
+	un := reach.Uncertainty{Draws: 5000, P05: 1177.51, P50: 1356.4, P95: 1557.68}
+	rep := reach.Report{Result: reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.US, Discharge: 1362.097}, Uncertainty: &un}
+	var b bytes.Buffer
+	if err := results.WriteSlopeAreaSummary(&b, rep, "out.txt"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "wrote out.txt: slope-area peak discharge 1362 ft3/s (90 % band 1178 to 1558 ft3/s), 0 of 0 checks warn\n"; !strings.HasPrefix(b.String(), want) {
+		t.Errorf("got  %q\nwant %q", b.String(), want)
+	}
+	tab := rating.Table{Units: rating.US, Slope: 0.002, Rows: []rating.Row{{Stage: 400.6, Discharge: 0}, {Stage: 411, Discharge: 4184.2}}}
+	b.Reset()
+	if err := results.WriteRatingSummary(&b, rating.RatingReport{Table: tab}, "r.csv"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "wrote r.csv: 2 stage(s) from 400.600 to 411.000 ft, discharge 0 to 4184 ft3/s (slope 0.002, us units)\n"; !strings.HasPrefix(b.String(), want) {
+		t.Errorf("got  %q\nwant %q", b.String(), want)
+	}
+}
