@@ -114,6 +114,12 @@ type Section struct {
 	Survey  string
 	Quality rating.Quality
 	Note    string
+	// SurveyNote says how the survey's stations were made when that is
+	// worth a reviewer's reading (projected from eastings and northings,
+	// onto which line, how far the farthest point lies off it): a fact of
+	// the inputs, which reports give with the section's inputs, not among
+	// the warnings. Empty for a survey given in stations.
+	SurveyNote string
 	// FlowLengths are the lengths of the flow paths to the next section
 	// downstream (length unit) in each region, for the step-backwater
 	// method, which weights them by conveyance (WeightedLength). All zero

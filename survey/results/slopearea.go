@@ -31,6 +31,9 @@ type jsonSASection struct {
 	EnergyGrade     Float     `json:"energy_grade"`
 	Froude          Float     `json:"froude"`
 	Subsections     []jsonSub `json:"subsections"`
+	// SurveyNote says how the survey's stations were made (added after
+	// the contract keys; absent for a survey in stations).
+	SurveyNote string `json:"survey_note,omitempty"`
 }
 
 type jsonSubreach struct {
@@ -83,7 +86,9 @@ type jsonUncertainty struct {
 // subsections at the peak discharge (from_station, to_station, region, n,
 // area, wetted_perimeter, top_width, conveyance, discharge, mean_velocity,
 // as in WriteRatingJSON). Each subreach ends with "flow", "expanding",
-// "contracting" or "uniform" (reach.Subreach.Flow). In "uncertainty", "dq_dn" is the change of
+// "contracting" or "uniform" (reach.Subreach.Flow); a section whose
+// stations were projected from coordinates ends with "survey_note", how.
+// In "uncertainty", "dq_dn" is the change of
 // discharge per unit change of every n together (discharge unit per 1 of
 // n) and "dq_dn_per_0_001_n" the same per 0.001 of n, as the text report
 // quotes it; "dq_dh" is per length unit of each water surface. Undefined
@@ -122,6 +127,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		js := saJSONSection(s)
 		if i < len(rep.Sections) {
 			js.Survey, js.Quality = rep.Sections[i].Survey, rep.Sections[i].Quality.String()
+			js.SurveyNote = rep.Sections[i].SurveyNote
 		}
 		out.Sections = append(out.Sections, js)
 	}
@@ -285,6 +291,18 @@ func saTextInputs(t *textReport, rep reach.Report) {
 		rows = append(rows, row)
 	}
 	t.table(fmt.Sprintf("section\tdistance %s\tws_left\tws_right\twater surface\tquality\tsurvey\tnote", r.Units.Length()), rows)
+	surveyNotes(t, rep.Sections)
+}
+
+// surveyNotes writes, below a reach's inputs, how the survey of each
+// section given in coordinates was made into stations (one line a
+// section); nothing when every survey gives stations.
+func surveyNotes(t *textReport, secs []reach.Section) {
+	for _, s := range secs {
+		if s.SurveyNote != "" {
+			t.line("  survey of %s: %s", s.ID, s.SurveyNote)
+		}
+	}
 }
 
 // saTextSections writes every section's hydraulics at the peak discharge.
