@@ -299,9 +299,9 @@ func reachPlot(rep reach.Report, site string) ReachPlot {
 		}
 		rp.Sections = append(rp.Sections, rs)
 	}
-	note := fmt.Sprintf("peak discharge %s %s", sig3(r.Discharge), r.Units.Discharge())
+	note := fmt.Sprintf("peak discharge %s %s", rating.PlainFigures(r.Discharge, 4), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
-		note += fmt.Sprintf(", 90 %% band %s to %s %s (Monte Carlo, %d draws)", sig3(u.P05), sig3(u.P95), r.Units.Discharge(), u.Draws)
+		note += fmt.Sprintf(", 90 %% band %s to %s %s (Monte Carlo, %d draws)", rating.PlainFigures(u.P05, 4), rating.PlainFigures(u.P95, 4), r.Units.Discharge(), u.Draws)
 	}
 	rp.Notes = []string{note}
 	return rp
@@ -322,15 +322,7 @@ func sideWords(s reach.Side) string {
 // without a sign).
 func verificationNote(v reach.Verification, u rating.Units) string {
 	return fmt.Sprintf("verification at %s %s: mean departure from the marks %s %s, largest %s %s",
-		sig3(v.Discharge), u.Discharge(), fmtSigned(v.MeanDeparture, 3), u.Length(), fmtSigned(v.MaxDeparture, 3), u.Length())
-}
-
-// sig3 formats a value to three significant figures for a note.
-func sig3(v float64) string {
-	if math.IsNaN(v) {
-		return "-"
-	}
-	return fmt.Sprintf("%.3g", v)
+		rating.PlainFigures(v.Discharge, 4), u.Discharge(), fmtSigned(v.MeanDeparture, 3), u.Length(), fmtSigned(v.MaxDeparture, 3), u.Length())
 }
 
 // DrawPlan draws the plan figure of a projected coordinate survey, named

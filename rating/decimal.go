@@ -88,3 +88,44 @@ func DecimalDifference(a, b float64) float64 {
 	}
 	return a - b
 }
+
+// DecimalMean returns (a + b)/2, as the float64 nearest the exact mean of
+// their shortest decimal forms when both have at most nine decimals (the
+// mean of marks at 407.45 and 407.38 is 407.415, not 407.41499999999996);
+// otherwise the float64 mean.
+func DecimalMean(a, b float64) float64 {
+	na, pa, okA := decimalOf(a)
+	nb, pb, okB := decimalOf(b)
+	if !okA || !okB {
+		return (a + b) / 2
+	}
+	p := max(pa, pb)
+	na *= pow10(p - pa)
+	nb *= pow10(p - pb)
+	if s := na + nb; math.Abs(float64(na)) <= maxExactInteger && math.Abs(float64(nb)) <= maxExactInteger && math.Abs(float64(s)) <= maxExactInteger {
+		return float64(s) / float64(2*pow10(p)) // one correctly rounded division
+	}
+	return (a + b) / 2
+}
+
+// PlainFigures writes v rounded to n significant figures (n ≥ 1) in plain
+// decimal, never with an exponent: for n = 4, 1362.4 as 1362, 13621 as
+// 13620 and 0.052341 as 0.05234. It is the form of a
+// discharge in summary lines and figure footnotes, where 1.36e+03 would
+// be read by few. Zero is "0" (without a sign); NaN and ±Inf are "-".
+func PlainFigures(v float64, n int) string {
+	switch {
+	case math.IsNaN(v) || math.IsInf(v, 0):
+		return "-"
+	case v == 0:
+		return "0"
+	}
+	// Rounding through the exponent form rounds at the n-th figure
+	// whatever the magnitude; the shortest plain form of the result then
+	// carries no float noise (1180, not 1179.9999999999998).
+	r, err := strconv.ParseFloat(strconv.FormatFloat(v, 'e', max(n, 1)-1, 64), 64)
+	if err != nil {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	return strconv.FormatFloat(r, 'f', -1, 64)
+}

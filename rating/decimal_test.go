@@ -1,6 +1,7 @@
 package rating
 
 import (
+	"math"
 	"strconv"
 	"testing"
 )
@@ -47,6 +48,57 @@ func TestDecimalDifference(t *testing.T) {
 	} {
 		if got := DecimalDifference(c.a, c.b); got != c.want {
 			t.Errorf("DecimalDifference(%v, %v) = %v, want %v", c.a, c.b, got, c.want)
+		}
+	}
+}
+
+// Discharges in summaries and footnotes are written in plain decimal to
+// four significant figures, never with an exponent (hand-rounded values).
+func TestPlainFigures(t *testing.T) {
+	for _, tc := range []struct {
+		v    float64
+		n    int
+		want string
+	}{
+		{1362.4, 4, "1362"},
+		{1177.6, 4, "1178"},
+		{1180, 4, "1180"},
+		{1558.04, 4, "1558"},
+		{13621, 4, "13620"},
+		{3620.3, 4, "3620"},
+		{0.052341, 4, "0.05234"},
+		{0.0523, 4, "0.0523"},
+		{81.0849, 4, "81.08"},
+		{17.96, 4, "17.96"},
+		{1.5e-7, 4, "0.00000015"},
+		{-2.5, 4, "-2.5"},
+		{0, 4, "0"},
+		{math.Copysign(0, -1), 4, "0"},
+		{1362.4, 3, "1360"},
+		{math.NaN(), 4, "-"},
+		{math.Inf(1), 4, "-"},
+	} {
+		if got := PlainFigures(tc.v, tc.n); got != tc.want {
+			t.Errorf("PlainFigures(%g, %d) = %q, want %q", tc.v, tc.n, got, tc.want)
+		}
+	}
+}
+
+// Means and differences of elevations typed as decimals are the decimals
+// a hand calculation gives, with no binary noise (hand-computed values).
+func TestDecimalMeanAndDifference(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"mean 407.45, 407.38", DecimalMean(407.45, 407.38), 407.415},
+		{"mean 406.50, 406.42", DecimalMean(406.50, 406.42), 406.46},
+		{"mean 101.5, 101.5", DecimalMean(101.5, 101.5), 101.5},
+		{"mean -0.3, 0.1", DecimalMean(-0.3, 0.1), -0.1},
+		{"fall of the means", DecimalDifference(DecimalMean(407.45, 407.38), DecimalMean(405.95, 406.02)), 1.43},
+	} {
+		if tc.got != tc.want {
+			t.Errorf("%s: %.17g, want %.17g", tc.name, tc.got, tc.want)
 		}
 	}
 }

@@ -386,9 +386,9 @@ func (d *demo) slopeArea() error {
 		return err
 	}
 	r := rep.Result
-	line := fmt.Sprintf("  peak discharge %.3g %s", r.Discharge, r.Units.Discharge())
+	line := fmt.Sprintf("  peak discharge %s %s", rating.PlainFigures(r.Discharge, 4), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
-		line += fmt.Sprintf(", 90 %% band %.3g to %.3g %s", u.P05, u.P95, r.Units.Discharge())
+		line += fmt.Sprintf(", 90 %% band %s to %s %s", rating.PlainFigures(u.P05, 4), rating.PlainFigures(u.P95, 4), r.Units.Discharge())
 	}
 	d.list = append(d.list, line)
 	d.warn(rep.Warnings)

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -110,6 +111,8 @@ func TestSlopeAreaBadReach(t *testing.T) {
 		{"no marks on a row", head + "A,a.csv,0,,\nB,a.csv,100,10.9,\n", nil, 1, "reach.csv:2:4: ws_left: give a high-water mark in ws_left or ws_right"},
 		{"listed downstream first", head + "C,a.csv,200,10.8,\nB,a.csv,100,10.9,\nA,a.csv,0,11,\n", nil, 1,
 			"reach.csv:3:3: distance \"100\": distances must increase downstream, row by row (100 after 200): the table lists its sections downstream first"},
+		{"middle mark raised by a blunder", head + "A,a.csv,0,11,\nB,a.csv,100,11.6,\nC,a.csv,200,10.8,\n", nil, 1,
+			"reach.csv: subreach A to B: at the reach's computed "},
 		{"survey outside the folder", head + "A,a.csv,0,11,\nB,../a.csv,100,10.9,\n", nil, 1, "give --surveys-anywhere to allow it"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -358,5 +361,93 @@ func TestSlopeAreaMarkSDBound(t *testing.T) {
 				t.Errorf("exit %d, want %d with %q:\n%s%s", code, tc.code, tc.want, out, errs)
 			}
 		})
+	}
+}
+
+// How a coordinate survey's stations were made is a fact of the inputs,
+// not a warning: slopearea and backwater give it once per section in the
+// report's inputs (text, JSON, workbook), and neither the report's
+// warnings nor the console repeat it.
+func TestSurveyProjectionIsInputNotWarning(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	coords := func(z float64) string {
+		var b strings.Builder
+		b.WriteString("easting,northing,elevation,n,mark\n")
+		for i, dz := range []float64{3, 1.5, 0, 0, 0, 1.5, 3} {
+			mark := ""
+			switch i {
+			case 0:
+				mark = "left pin"
+			case 6:
+				mark = "right pin"
+			}
+			n := "0.035"
+			if i == 6 {
+				n = ""
+			}
+			fmt.Fprintf(&b, "%.3f,%.3f,%.3f,%s,%s\n", 7000+3*float64(i), 9000-0.01*float64(i%2), z+dz, n, mark)
+		}
+		return b.String()
+	}
+	files := map[string]string{
+		"a.csv": coords(100), "b.csv": coords(99.6), "c.csv": coords(99.2),
+		"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,101.5,\nB,b.csv,200,101.1,\nC,c.csv,400,100.7,\n",
+	}
+	for name, text := range files {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	const projected = "stations were projected from eastings and northings"
+	table := filepath.Join(dir, "reach.csv")
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"slopearea text", []string{"slopearea", table, "--draws", "0"}},
+		{"slopearea json", []string{"slopearea", table, "--draws", "0", "--format", "json"}},
+		{"backwater text", []string{"backwater", table, "--discharges", "10,20", "--boundary", "normal:0.002"}},
+		{"backwater json", []string{"backwater", table, "--discharges", "10,20", "--boundary", "normal:0.002", "--format", "json"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if n := strings.Count(out, projected); n != 3 {
+				t.Errorf("the report states the projection %d times, want once per section (3):\n%s", n, out)
+			}
+			if strings.Contains(errs, projected) {
+				t.Errorf("console repeats the projection: %s", errs)
+			}
+			if strings.HasSuffix(tc.name, "json") {
+				var doc struct {
+					Warnings []string `json:"warnings"`
+				}
+				if err := json.Unmarshal([]byte(out), &doc); err != nil {
+					t.Fatal(err)
+				}
+				for _, w := range doc.Warnings {
+					if strings.Contains(w, projected) {
+						t.Errorf("warning %q", w)
+					}
+				}
+				return
+			}
+			if _, warnings, ok := strings.Cut(out, "\nWarnings\n"); ok && strings.Contains(warnings, projected) {
+				t.Errorf("the projection is among the warnings:\n%s", out)
+			}
+			for _, id := range []string{"A", "B", "C"} {
+				if !strings.Contains(out, "survey of "+id+": "+projected) && !strings.Contains(out, "  survey "+id+"      "+projected) {
+					t.Errorf("no line on the survey of %s:\n%s", id, out)
+				}
+			}
+		})
+	}
+	// The console after a file is written keeps quiet about it too.
+	_, errs, code := runCLI(t, "slopearea", table, "--draws", "0", "-o", filepath.Join(t.TempDir(), "r.xlsx"))
+	if code != 0 || strings.Contains(errs, projected) {
+		t.Errorf("exit %d, console %q", code, errs)
 	}
 }

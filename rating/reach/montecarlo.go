@@ -80,7 +80,8 @@ type MonteCarloOptions struct {
 // and water surfaces, and its sensitivities.
 type Uncertainty struct {
 	// Draws is the number of draws made; Failed those without a solution
-	// (a dry section, no fall, no real discharge), left out of the
+	// (a dry section, no fall, no real discharge, a subreach gaining
+	// energy: SolveSlopeArea), left out of the
 	// percentiles.
 	Draws, Failed int
 	// Seed, NCV and MarkSD are the settings used (MarkSD in length units;

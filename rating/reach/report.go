@@ -58,10 +58,10 @@ func failedDrawsWarning(un Uncertainty) string {
 	case un.Draws <= 0 || !(float64(un.Failed) > FailedDrawsWarn*float64(un.Draws)):
 		return ""
 	case un.Failed >= un.Draws:
-		return fmt.Sprintf("no uncertainty band: none of the %d Monte Carlo draws had a solution (a section dry or no fall); "+
+		return fmt.Sprintf("no uncertainty band: none of the %d Monte Carlo draws had a solution (a section dry, no fall, or a subreach gaining energy); "+
 			"review the n variation and the mark standard deviation", un.Draws)
 	}
-	return fmt.Sprintf("%d of %d Monte Carlo draws (%.1f %%) had no solution (a section dry or no fall): the band leaves them out",
+	return fmt.Sprintf("%d of %d Monte Carlo draws (%.1f %%) had no solution (a section dry, no fall, or a subreach gaining energy): the band leaves them out",
 		un.Failed, un.Draws, 100*float64(un.Failed)/float64(un.Draws))
 }
 

@@ -114,6 +114,12 @@ type Section struct {
 	Survey  string
 	Quality rating.Quality
 	Note    string
+	// SurveyNote says how the survey's stations were made when that is
+	// worth a reviewer's reading (projected from eastings and northings,
+	// onto which line, how far the farthest point lies off it): a fact of
+	// the inputs, which reports give with the section's inputs, not among
+	// the warnings. Empty for a survey given in stations.
+	SurveyNote string
 	// FlowLengths are the lengths of the flow paths to the next section
 	// downstream (length unit) in each region, for the step-backwater
 	// method, which weights them by conveyance (WeightedLength). All zero
@@ -244,6 +250,7 @@ type Subreach struct {
 	// Expanding reports a velocity head falling downstream (by more than
 	// VelocityHeadTolerance of it); EddyK is the
 	// eddy-loss coefficient applied (ExpandingEddyK or ContractingEddyK).
+	// The method Flow says which in a word, or uniform.
 	Expanding bool
 	EddyK     float64
 	// At the reach discharge: FrictionLoss Q²L/(KuKd), VelocityHeadChange
@@ -251,6 +258,30 @@ type Subreach struct {
 	FrictionLoss, VelocityHeadChange, EddyLoss float64
 	// ConveyanceRatio is Kd/Ku.
 	ConveyanceRatio float64
+}
+
+// Words of Subreach.Flow.
+const (
+	FlowExpanding   = "expanding"
+	FlowContracting = "contracting"
+	FlowUniform     = "uniform"
+)
+
+// Flow says how the velocity head changes through the subreach:
+// FlowExpanding where it falls downstream, FlowContracting where it rises,
+// and FlowUniform where the two velocity heads are equal within
+// VelocityHeadTolerance of the larger (VelocityHeadChange is then 0): a
+// prismatic reach at one depth, which neither expands nor contracts. A
+// uniform subreach takes the contracting coefficient, which makes no
+// difference there (the eddy loss k·0 is 0 for any k).
+func (s Subreach) Flow() string {
+	switch {
+	case s.Expanding:
+		return FlowExpanding
+	case s.VelocityHeadChange == 0:
+		return FlowUniform
+	}
+	return FlowContracting
 }
 
 // Check is one quality check of a slope-area reach.
@@ -284,6 +315,10 @@ var (
 	ErrFall            = errors.New("the water surface must fall from the first section to the last")
 	ErrDrySection      = errors.New("the ground is entirely above the water surface")
 	ErrNoReachSolution = errors.New("no real discharge: the velocity-head recovery exceeds the friction loss")
+	// ErrEnergyGain is the cause of a reach refused because, at its
+	// computed discharge, the marks of a subreach leave no positive
+	// friction loss (see SolveSlopeArea).
+	ErrEnergyGain = errors.New("no real flow gains energy downstream: the marks of this subreach fit no discharge; check them, or leave the section out")
 )
 
 // SectionError reports a problem with one section of a reach.
@@ -317,7 +352,7 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		case RightSide:
 			return r, 1, ""
 		}
-		return (l + r) / 2, 2, ""
+		return rating.DecimalMean(l, r), 2, "" // 407.415, not 407.41499999999996
 	case hasL:
 		switch side {
 		case RightSide:
@@ -398,7 +433,11 @@ func saState(g subdivide.Geometry, ws float64, nmul []float64, gopt subdivide.Op
 // VelocityHeadTolerance is the relative difference, of the larger of two
 // velocity heads, below which they count as equal: sections of the same
 // shape at the same depth differ by round-off only, and their subreach
-// neither expands nor contracts.
+// neither expands nor contracts (Subreach.Flow is FlowUniform). It is far
+// above round-off (about 1e-16 of a value, a few times that after the
+// depth is taken from elevations of a hundred metres) and far below any
+// difference a survey can show (1e-9 of a velocity head of 1 m is a
+// micrometre).
 const VelocityHeadTolerance = 1e-9
 
 // headChange returns up − dn, or 0 where the two differ by no more than
@@ -424,7 +463,10 @@ func saSubreachTerm(l float64, up, dn *saSectionState, u rating.Units) (term flo
 	return l/(up.k*dn.k) - (1-k)*dc/(2*u.Gravity()), expanding
 }
 
-// saReachQ solves the whole reach for the water surfaces ws and states sts.
+// saReachQ solves the whole reach for the water surfaces ws and states
+// sts. At the discharge found, every subreach must keep a positive
+// friction loss (saFrictionLoss); otherwise the discharge is returned with
+// ErrEnergyGain (bare: SolveSlopeArea names the subreach).
 func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units) (float64, error) {
 	var den float64
 	for j := 0; j+1 < len(secs); j++ {
@@ -438,7 +480,62 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 	if !(den > 0) {
 		return math.NaN(), ErrNoReachSolution
 	}
-	return math.Sqrt(fall / den), nil
+	q := math.Sqrt(fall / den)
+	if saGainingSubreach(ws, sts, q, u) >= 0 {
+		return q, ErrEnergyGain
+	}
+	return q, nil
+}
+
+// saFrictionLoss returns the friction loss that the water surfaces of
+// subreach j (sections j and j+1) leave at discharge q: the drop of the
+// energy grade less the eddy loss,
+//
+//	hf = (hu + hvu) − (hd + hvd) − k·(hvu − hvd) = F + (1−k)·(hvu − hvd),
+//
+// with k and the velocity-head change as in saSubreachTerm. Over the
+// whole reach these add up to Q²·Σ L/(Ku·Kd), which is positive; a
+// subreach alone may come out at zero or below.
+func saFrictionLoss(j int, ws []float64, sts []saSectionState, q float64, u rating.Units) float64 {
+	up, dn := &sts[j], &sts[j+1]
+	dc := headChange(up.c, dn.c)
+	k := ContractingEddyK
+	if dc > 0 {
+		k = ExpandingEddyK
+	}
+	return ws[j] - ws[j+1] + (1-k)*dc*q*q/(2*u.Gravity())
+}
+
+// saGainingSubreach returns the first subreach whose friction loss at q
+// (saFrictionLoss) is not above the round-off of its water surfaces
+// (roundOffSlack), or −1 when every subreach loses energy to friction.
+func saGainingSubreach(ws []float64, sts []saSectionState, q float64, u rating.Units) int {
+	for j := 0; j+1 < len(ws); j++ {
+		if !(saFrictionLoss(j, ws, sts, q, u) > roundOffSlack(ws[j], ws[j+1])) {
+			return j
+		}
+	}
+	return -1
+}
+
+// saEnergyGainError names subreach j of a reach refused with
+// ErrEnergyGain: the energy grades of its two sections at the computed
+// discharge q, their rise (or a fall smaller than the eddy loss), and the
+// friction loss the marks leave.
+func saEnergyGainError(secs []Section, ws []float64, sts []saSectionState, q float64, u rating.Units, j int) error {
+	g2 := 2 * u.Gravity()
+	eu := ws[j] + sts[j].c*q*q/g2
+	ed := ws[j+1] + sts[j+1].c*q*q/g2
+	hf := saFrictionLoss(j, ws, sts, q, u)
+	L := u.Length()
+	how := fmt.Sprintf("the energy grade rises %.3f %s downstream, from %.3f %s at %s to %.3f %s at %s",
+		ed-eu, L, eu, L, secs[j].ID, ed, L, secs[j+1].ID)
+	if ed < eu {
+		how = fmt.Sprintf("the energy grade falls only %.3f %s, from %.3f %s at %s to %.3f %s at %s, no more than the eddy loss",
+			eu-ed, L, eu, L, secs[j].ID, ed, L, secs[j+1].ID)
+	}
+	return fmt.Errorf("subreach %s to %s: at the reach's computed %s %s %s, a friction loss of %.3f %s: %w",
+		secs[j].ID, secs[j+1].ID, saSig(q), u.Discharge(), how, hf, L, ErrEnergyGain)
 }
 
 // SolveSlopeArea computes the peak discharge of a reach of two or more
@@ -474,6 +571,29 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 // choice of k in each subreach depends only on the geometry (αu/Au² against
 // αd/Ad²), so no iteration is needed.
 //
+// Each subreach must lose energy at the computed discharge. The whole-reach
+// form balances only the sum of the subreach equations, so marks that are
+// impossible in one subreach (a mark raised by a blunder, so that the
+// energy grade rises downstream through it) still give a positive Q²: the
+// other subreaches pay for it, and the discharge is an artefact of the
+// blunder, not an estimate of the flow. The method rests on the energy
+// equation above with losses that are never negative: the friction loss
+// hf = Q²·L/(Ku·Kd) is positive and the eddy loss is zero or more, so in
+// a real flow the energy grade falls through every subreach by more than
+// its eddy loss (Dalrymple & Benson, 1967; Chow, 1959, section 10-1).
+// A reach whose water surface rises from end to end is refused (ErrFall);
+// for the same reason a reach is refused where, at its computed
+// discharge, the water surfaces of a subreach leave a friction loss
+// F + (1−k)·(hvu − hvd) of zero or less (within the round-off of the
+// elevations, RoundOffRelative), wrapping ErrEnergyGain and naming the
+// subreach, its energy grades and the friction loss left. This project
+// refuses rather than warns (its reading of the method): a figure that no
+// real flow could give is not a flood peak to be read with a warning
+// beside it, and a refusal writes nothing that could be quoted. A subreach
+// whose water surface rises but whose energy grade still falls by more
+// than its eddy loss (recovery of velocity head in an expansion) is a real
+// flow and is solved, with the checks' warnings.
+//
 // References:
 //
 //	Dalrymple, T., and Benson, M.A., 1967, Measurement of peak discharge by
@@ -482,8 +602,8 @@ func saReachQ(secs []Section, ws []float64, sts []saSectionState, u rating.Units
 //	Chow, V.T., 1959, Open-Channel Hydraulics, sections 2-7 and 10-1.
 //
 // Errors are *SectionError for a section at fault (distance not
-// increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall or
-// ErrNoReachSolution.
+// increasing, no mark, dry section) or wrap ErrTooFewSections, ErrFall,
+// ErrNoReachSolution or ErrEnergyGain.
 func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	u := opt.Units
 	res := SlopeArea{Method: MethodSlopeArea, Units: u, Side: opt.Side,
@@ -495,13 +615,18 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	if err != nil {
 		return res, err
 	}
-	res.Fall = ws[0] - ws[len(ws)-1]
-	res.Length = secs[len(secs)-1].Distance - secs[0].Distance
+	// Differences of inputs are the decimals a hand calculation gives
+	// (a fall of 1.43, not 1.42999999999995), for every report.
+	res.Fall = rating.DecimalDifference(ws[0], ws[len(ws)-1])
+	res.Length = rating.DecimalDifference(secs[len(secs)-1].Distance, secs[0].Distance)
 	if !(res.Fall > 0) {
 		return res, fmt.Errorf("%w: %s at %.3f %s, %s at %.3f %s", ErrFall,
 			secs[0].ID, ws[0], u.Length(), secs[len(secs)-1].ID, ws[len(ws)-1], u.Length())
 	}
 	q, err := saReachQ(secs, ws, sts, u)
+	if errors.Is(err, ErrEnergyGain) {
+		return res, saEnergyGainError(secs, ws, sts, q, u, saGainingSubreach(ws, sts, q, u))
+	}
 	if err != nil {
 		return res, err
 	}
@@ -510,10 +635,10 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	res.SubreachMin, res.SubreachMax = math.Inf(1), math.Inf(-1)
 	for j := 0; j+1 < len(secs); j++ {
 		up, dn := &res.Sections[j], &res.Sections[j+1]
-		l := secs[j+1].Distance - secs[j].Distance
+		l := rating.DecimalDifference(secs[j+1].Distance, secs[j].Distance)
 		term, expanding := saSubreachTerm(l, &sts[j], &sts[j+1], u)
 		sr := Subreach{From: secs[j].ID, To: secs[j+1].ID, FromIndex: j, ToIndex: j + 1,
-			Length: l, Fall: ws[j] - ws[j+1], Expanding: expanding, Discharge: math.NaN(),
+			Length: l, Fall: rating.DecimalDifference(ws[j], ws[j+1]), Expanding: expanding, Discharge: math.NaN(),
 			ConveyanceRatio: sts[j+1].k / sts[j].k}
 		if x := sr.Fall / term; x > 0 && !math.IsInf(x, 0) {
 			sr.Discharge = math.Sqrt(x)
@@ -530,7 +655,7 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 		if math.IsNaN(sr.Discharge) {
 			res.SubreachMin, res.SubreachMax = math.NaN(), math.NaN()
 			res.Warnings = append(res.Warnings, fmt.Sprintf(
-				"subreach %s to %s alone has no real discharge (fall %.3f %s): only the whole reach gives one",
+				"subreach %s to %s alone has no real discharge (fall %.3f %s): the reach's discharge rests on the other subreaches; review its marks",
 				sr.From, sr.To, sr.Fall, u.Length()))
 		} else {
 			res.SubreachMin = math.Min(res.SubreachMin, sr.Discharge)
@@ -547,12 +672,9 @@ func SolveSlopeArea(secs []Section, opt SlopeAreaOptions) (SlopeArea, error) {
 	return res, nil
 }
 
-func saSig(v float64) string {
-	if math.IsNaN(v) {
-		return "-"
-	}
-	return fmt.Sprintf("%.4g", v)
-}
+// saSig writes a discharge or a check's value for a warning or an error:
+// four significant figures in plain decimal (rating.PlainFigures).
+func saSig(v float64) string { return rating.PlainFigures(v, 4) }
 
 // saPrepare validates the sections, takes their water surfaces and wets
 // them. Warnings about marks and end extension go on res.
@@ -638,7 +760,7 @@ const (
 		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
-	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
+	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory); no change (uniform) passes"
 	srcMarks     = "left and right marks within the mark-spread tolerance (project default, common practice)"
 )
 
@@ -680,9 +802,10 @@ func saCheckList(res *SlopeArea) []Check {
 				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
 		}
 		for _, sr := range res.Subreaches {
-			// The value is the change in velocity head downstream: a
-			// rise means the flow expands.
-			cs = append(cs, Check{Name: "contracting " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+			// The value is the drop in velocity head downstream, hvu − hvd:
+			// above 0 the flow expands, 0 is uniform (within
+			// VelocityHeadTolerance), below 0 it contracts.
+			cs = append(cs, Check{Name: "velocity-head drop " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}
@@ -694,7 +817,7 @@ func saCheckList(res *SlopeArea) []Check {
 		if math.IsNaN(s.Left) || math.IsNaN(s.Right) {
 			continue
 		}
-		d := math.Abs(s.Left - s.Right)
+		d := math.Abs(rating.DecimalDifference(s.Left, s.Right))
 		cs = append(cs, Check{Name: "mark spread " + s.ID, Value: d, Limit: res.MarkSpread, Relation: "≤",
 			Pass: d <= res.MarkSpread+roundOffSlack(s.Left, s.Right), Source: srcMarks})
 	}

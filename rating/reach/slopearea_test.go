@@ -311,7 +311,7 @@ func TestSlopeAreaChecks(t *testing.T) {
 	for name, pass := range map[string]bool{
 		"mark spread A":              false,
 		"mark spread B":              true,
-		"contracting A to B":         false,
+		"velocity-head drop A to B":  false,
 		"reach length vs mean depth": false,
 		"fall A to B":                false, // fall 0.1 m < 0.15 m
 		"sections in the reach":      false, // two sections
@@ -578,13 +578,13 @@ func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, sr := range res.Subreaches {
-		if sr.Expanding || sr.VelocityHeadChange != 0 || sr.EddyLoss != 0 {
+		if sr.Expanding || sr.VelocityHeadChange != 0 || sr.EddyLoss != 0 || sr.Flow() != FlowUniform {
 			t.Errorf("%s to %s: expanding %v, velocity-head change %g, eddy loss %g: want not expanding, 0, 0",
 				sr.From, sr.To, sr.Expanding, sr.VelocityHeadChange, sr.EddyLoss)
 		}
 	}
 	for _, c := range res.Checks {
-		if strings.HasPrefix(c.Name, "contracting") && (!c.Pass || c.Value != 0) {
+		if strings.HasPrefix(c.Name, "velocity-head drop") && (!c.Pass || c.Value != 0) {
 			t.Errorf("check %s: value %g, pass %v", c.Name, c.Value, c.Pass)
 		}
 	}
@@ -698,5 +698,124 @@ func TestSlopeAreaSubreachLength(t *testing.T) {
 				t.Errorf("%d subreach length checks, want %d", found, len(tc.want))
 			}
 		})
+	}
+}
+
+// A prismatic rectangle in uniform flow, with one mark moved. Unmoved,
+// the slope-area discharge is Manning's uniform flow Q = (1/n)·A·R^⅔·√S
+// (Chow 1959, eq. 6-9; closed form). A mark raised or lowered so far that
+// the energy grade of a subreach no longer falls by more than its eddy
+// loss is refused, naming that subreach, though the whole reach still
+// falls and would give a discharge (a middle mark 0.8 m high gave 1.4
+// times the true peak); a mark moved less is still a real flow and solves.
+func TestSlopeAreaEnergyGain(t *testing.T) {
+	const (
+		width, depth, n, slope, length = 6.0, 1.2, 0.03, 0.002, 250.0
+	)
+	a := width * depth
+	r := a / (width + 2*depth)
+	manning := a * math.Pow(r, 2.0/3.0) * math.Sqrt(slope) / n // Chow 1959, eq. 6-9
+	for _, tc := range []struct {
+		name     string
+		at       int     // the section whose marks move
+		move     float64 // how far they move (m)
+		subreach string  // the subreach refused; "" for a solution
+		q        float64 // the discharge wanted when solved (0: not checked)
+	}{
+		{"uniform flow", 1, 0, "", manning},
+		{"middle mark a little high", 1, 0.1, "", 0},
+		{"middle mark raised by a blunder", 1, 0.8, "A to B", 0},
+		{"middle mark lowered by a blunder", 1, -0.8, "B to C", 0},
+		{"last mark raised by a blunder", 2, 0.6, "B to C", 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var secs []Section
+			for i, id := range []string{"A", "B", "C"} {
+				bed := 100 - slope*length*float64(i)
+				ws := bed + depth
+				if i == tc.at {
+					ws += tc.move
+				}
+				secs = append(secs, Section{ID: id, Geometry: saTrapezoid(t, width, 0, bed, 5, n),
+					Distance: length * float64(i), Left: ws, Right: ws})
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if tc.subreach == "" {
+				if err != nil {
+					t.Fatalf("refused: %v", err)
+				}
+				if tc.q > 0 && saRelErr(res.Discharge, tc.q) > saClosedFormTol {
+					t.Errorf("Q = %.9g, Manning's uniform flow %.9g", res.Discharge, tc.q)
+				}
+				return
+			}
+			if !errors.Is(err, ErrEnergyGain) {
+				t.Fatalf("got Q %g, error %v; want ErrEnergyGain", res.Discharge, err)
+			}
+			if msg := err.Error(); !strings.HasPrefix(msg, "subreach "+tc.subreach+": ") || strings.Contains(msg, "\n") {
+				t.Errorf("error %q: want one line naming subreach %s first", msg, tc.subreach)
+			}
+			if _, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 100}); !errors.Is(err, ErrEnergyGain) {
+				t.Errorf("MonteCarlo: %v, want ErrEnergyGain", err)
+			}
+		})
+	}
+}
+
+// A subreach is labelled by the change of its velocity head downstream:
+// a fall expands, a rise contracts, none (within VelocityHeadTolerance,
+// where VelocityHeadChange is 0) is uniform, not contracting.
+func TestSubreachFlow(t *testing.T) {
+	for _, tc := range []struct {
+		sr   Subreach
+		want string
+	}{
+		{Subreach{Expanding: true, VelocityHeadChange: 0.3}, FlowExpanding},
+		{Subreach{VelocityHeadChange: -0.3}, FlowContracting},
+		{Subreach{VelocityHeadChange: 0}, FlowUniform},
+	} {
+		if got := tc.sr.Flow(); got != tc.want {
+			t.Errorf("%+v: %s, want %s", tc.sr, got, tc.want)
+		}
+	}
+}
+
+// Water surfaces, falls, lengths and mark spreads are the decimals a hand
+// calculation from the marks and distances gives, not their binary
+// round-off: the mean of 407.45 and 407.38 is 407.415, and the fall from
+// it to the mean of 405.95 and 406.02 is 1.43, not 1.42999999999995
+// (hand-computed).
+func TestSlopeAreaDifferencesAsDecimals(t *testing.T) {
+	g := saTrapezoid(t, 20, 2, 400, 12, 0.04)
+	secs := []Section{
+		{ID: "A", Geometry: g, Distance: 0.1, Left: 407.45, Right: 407.38},
+		{ID: "B", Geometry: g, Distance: 320.3, Left: 406.95, Right: 407.05},
+		{ID: "C", Geometry: g, Distance: 900.7, Left: 405.95, Right: 406.02},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{Units: rating.US})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"water surface A", res.Sections[0].WaterSurface, 407.415},
+		{"water surface C", res.Sections[2].WaterSurface, 405.985},
+		{"reach fall", res.Fall, 1.43},
+		{"reach length", res.Length, 900.6},
+		{"fall A to B", res.Subreaches[0].Fall, 0.415},
+		{"fall B to C", res.Subreaches[1].Fall, 1.015},
+		{"length A to B", res.Subreaches[0].Length, 320.2},
+		{"length B to C", res.Subreaches[1].Length, 580.4},
+	} {
+		if tc.got != tc.want {
+			t.Errorf("%s: %.17g, want %.17g", tc.name, tc.got, tc.want)
+		}
+	}
+	for _, c := range res.Checks {
+		if c.Name == "mark spread A" && c.Value != 0.07 {
+			t.Errorf("mark spread A: %.17g, want 0.07", c.Value)
+		}
 	}
 }

@@ -55,6 +55,13 @@ type jsonProfileSection struct {
 	HalfwayWaterSurface Float `json:"halfway_water_surface"`
 }
 
+// jsonSurveyNote says how the survey of a section given in coordinates
+// was made into stations (reach.Section.SurveyNote).
+type jsonSurveyNote struct {
+	Section string `json:"section"`
+	Note    string `json:"note"`
+}
+
 type jsonProfile struct {
 	Discharge      Float                `json:"discharge"`
 	Sections       []jsonProfileSection `json:"sections"`
@@ -114,8 +121,10 @@ type jsonVerification struct {
 //	 "warnings", "caution", ...}
 //
 // Keys after these are added, never between them: "units", "reach",
-// "program", "expansion", "contraction" (the eddy-loss coefficients) and
-// "verification" (null unless asked for). The rating's "hydraulics" holds
+// "program", "expansion", "contraction" (the eddy-loss coefficients),
+// "verification" (null unless asked for), "site" and, where a section's
+// survey was given in coordinates, "survey_notes" ([{"section", "note"}]:
+// how its stations were made). The rating's "hydraulics" holds
 // the section's full hydraulics at every computed stage in the row
 // objects of WriteRatingJSON. Spread is the larger difference of the
 // profiles from the second and half-way starts from the first (length
@@ -135,6 +144,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Contraction  Float             `json:"contraction"`
 		Verification *jsonVerification `json:"verification"`
 		Site         *jsonSite         `json:"site"`
+		SurveyNotes  []jsonSurveyNote  `json:"survey_notes,omitempty"`
 	}{
 		Boundary: bwJSONBoundary(rep), Profiles: make([]jsonProfile, len(r.Profiles)),
 		Rating: jsonBWRating{Section: r.Rating.Section, Rows: make([]jsonRead, len(r.Rating.Rows)),
@@ -159,6 +169,11 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 				LeftDeparture: Float(m.LeftDeparture), RightDeparture: Float(m.RightDeparture), Band: Float(m.Band), Outside: m.Outside})
 		}
 		out.Verification = jv
+	}
+	for _, sec := range rep.Sections {
+		if sec.SurveyNote != "" {
+			out.SurveyNotes = append(out.SurveyNotes, jsonSurveyNote{Section: sec.ID, Note: sec.SurveyNote})
+		}
 	}
 	return writeJSON(w, out)
 }
@@ -300,6 +315,11 @@ func bwTextMethod(line func(string, ...any), rep reach.BackwaterReport) {
 	line("  second start  %s", r.SecondBoundary)
 	line("  third start   half-way between the two (nearer the first where half-way is supercritical)")
 	line("  sections      %d, rating read at %s; spread tolerance %g %s", len(rep.Sections), r.Rating.Section, r.Rating.Tolerance, u.Length())
+	for _, s := range rep.Sections {
+		if s.SurveyNote != "" {
+			line("  %-13s %s", "survey "+s.ID, s.SurveyNote)
+		}
+	}
 	if n > 0 {
 		lo, hi := math.Inf(1), math.Inf(-1)
 		for _, p := range r.Profiles {

@@ -84,6 +84,11 @@ func writeBWSummary(b *workbook.Book, rep reach.BackwaterReport) error {
 		{"spread tolerance", num("0.000", r.Rating.Tolerance), u.Length()},
 		{"discharges", len(r.Profiles), ""},
 	}
+	for _, sec := range rep.Sections {
+		if sec.SurveyNote != "" {
+			items = append(items, SummaryItem{"survey of " + sec.ID, sec.SurveyNote, ""})
+		}
+	}
 	unsettled, critical := 0, 0
 	for _, rd := range r.Rating.Rows {
 		if rd.Unsettled {

@@ -31,6 +31,9 @@ type jsonSASection struct {
 	EnergyGrade     Float     `json:"energy_grade"`
 	Froude          Float     `json:"froude"`
 	Subsections     []jsonSub `json:"subsections"`
+	// SurveyNote says how the survey's stations were made (added after
+	// the contract keys; absent for a survey in stations).
+	SurveyNote string `json:"survey_note,omitempty"`
 }
 
 type jsonSubreach struct {
@@ -45,6 +48,7 @@ type jsonSubreach struct {
 	VelocityHeadChange Float  `json:"velocity_head_change"`
 	EddyLoss           Float  `json:"eddy_loss"`
 	ConveyanceRatio    Float  `json:"conveyance_ratio"`
+	Flow               string `json:"flow"`
 }
 
 type jsonCheck struct {
@@ -81,7 +85,10 @@ type jsonUncertainty struct {
 // "warnings":[...],"caution"}. Each section holds "subsections", its
 // subsections at the peak discharge (from_station, to_station, region, n,
 // area, wetted_perimeter, top_width, conveyance, discharge, mean_velocity,
-// as in WriteRatingJSON). In "uncertainty", "dq_dn" is the change of
+// as in WriteRatingJSON). Each subreach ends with "flow", "expanding",
+// "contracting" or "uniform" (reach.Subreach.Flow); a section whose
+// stations were projected from coordinates ends with "survey_note", how.
+// In "uncertainty", "dq_dn" is the change of
 // discharge per unit change of every n together (discharge unit per 1 of
 // n) and "dq_dn_per_0_001_n" the same per 0.001 of n, as the text report
 // quotes it; "dq_dh" is per length unit of each water surface. Undefined
@@ -120,6 +127,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		js := saJSONSection(s)
 		if i < len(rep.Sections) {
 			js.Survey, js.Quality = rep.Sections[i].Survey, rep.Sections[i].Quality.String()
+			js.SurveyNote = rep.Sections[i].SurveyNote
 		}
 		out.Sections = append(out.Sections, js)
 	}
@@ -127,7 +135,7 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		out.Subreaches = append(out.Subreaches, jsonSubreach{From: s.From, To: s.To, Length: Float(s.Length),
 			Fall: Float(s.Fall), Discharge: Float(s.Discharge), Expanding: s.Expanding, EddyK: Float(s.EddyK),
 			FrictionLoss: Float(s.FrictionLoss), VelocityHeadChange: Float(s.VelocityHeadChange),
-			EddyLoss: Float(s.EddyLoss), ConveyanceRatio: Float(s.ConveyanceRatio)})
+			EddyLoss: Float(s.EddyLoss), ConveyanceRatio: Float(s.ConveyanceRatio), Flow: s.Flow()})
 	}
 	for _, c := range r.Checks {
 		out.Checks = append(out.Checks, jsonCheck{Name: c.Name, Value: Float(c.Value), Limit: Float(c.Limit),
@@ -208,14 +216,14 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	}
 	t.b.WriteString(siteLine(rep.Provenance))
 	t.line("")
-	t.line("Peak discharge  %s %s", sig(r.Discharge, 4), Q)
+	t.line("Peak discharge  %s %s", rating.PlainFigures(r.Discharge, 4), Q)
 	switch un := rep.Uncertainty; {
 	case un == nil:
 	case un.Failed >= un.Draws:
 		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
 	default:
 		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
-			sig(un.P05, 4), sig(un.P95, 4), Q, sig(un.P50, 4), un.Draws-un.Failed)
+			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), un.Draws-un.Failed)
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
@@ -237,12 +245,12 @@ func saSubreachWords(r reach.SlopeArea) string {
 		if math.IsNaN(sr.Discharge) {
 			failed = append(failed, sr.From+" to "+sr.To)
 		} else {
-			solved = append(solved, fmt.Sprintf("%s to %s %s %s", sr.From, sr.To, sig(sr.Discharge, 4), Q))
+			solved = append(solved, fmt.Sprintf("%s to %s %s %s", sr.From, sr.To, rating.PlainFigures(sr.Discharge, 4), Q))
 		}
 	}
 	switch {
 	case len(failed) == 0:
-		return fmt.Sprintf("%s to %s %s alone (spread %s %% of the peak)", sig(r.SubreachMin, 4), sig(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
+		return fmt.Sprintf("%s to %s %s alone (spread %s %% of the peak)", rating.PlainFigures(r.SubreachMin, 4), rating.PlainFigures(r.SubreachMax, 4), Q, fixed(100*r.SubreachSpread, 1))
 	case len(solved) == 0:
 		return fmt.Sprintf("none has a real discharge alone (%s): only the whole reach gives one", strings.Join(failed, ", "))
 	}
@@ -283,6 +291,18 @@ func saTextInputs(t *textReport, rep reach.Report) {
 		rows = append(rows, row)
 	}
 	t.table(fmt.Sprintf("section\tdistance %s\tws_left\tws_right\twater surface\tquality\tsurvey\tnote", r.Units.Length()), rows)
+	surveyNotes(t, rep.Sections)
+}
+
+// surveyNotes writes, below a reach's inputs, how the survey of each
+// section given in coordinates was made into stations (one line a
+// section); nothing when every survey gives stations.
+func surveyNotes(t *textReport, secs []reach.Section) {
+	for _, s := range secs {
+		if s.SurveyNote != "" {
+			t.line("  survey of %s: %s", s.ID, s.SurveyNote)
+		}
+	}
 }
 
 // saTextSections writes every section's hydraulics at the peak discharge.
@@ -309,7 +329,7 @@ func saTextSubsections(t *textReport, r reach.SlopeArea) {
 	for _, s := range r.Sections {
 		for k, sub := range s.Subs {
 			rows = append(rows, []string{s.ID, fmt.Sprint(k + 1), sub.Region.String(), fixed(sub.From, 1) + " to " + fixed(sub.To, 1),
-				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), sig(sub.Discharge, 4), fixed(sub.Velocity, 2)})
+				fixed(sub.N, 3), fixed(sub.Area, 2), fixed(sub.Conveyance, 0), rating.PlainFigures(sub.Discharge, 4), fixed(sub.Velocity, 2)})
 		}
 	}
 	t.table(fmt.Sprintf("section\tsubsection\tregion\tstations %s\tn\tarea %s\tconveyance %s\tdischarge %s\tvelocity %s",
@@ -327,11 +347,7 @@ func saTextSubreaches(t *textReport, r reach.SlopeArea) {
 	var rows [][]string
 	dec := lengthDecimals(saDistances(r)...)
 	for _, s := range r.Subreaches {
-		kind := "contracting"
-		if s.Expanding {
-			kind = "expanding"
-		}
-		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), sig(s.Discharge, 4), kind,
+		rows = append(rows, []string{s.From + " to " + s.To, fixed(s.Length, dec), fixed(s.Fall, 3), rating.PlainFigures(s.Discharge, 4), s.Flow(),
 			fixed(s.EddyK, 1), fixed(s.FrictionLoss, 3), fixed(s.VelocityHeadChange, 3), fixed(s.EddyLoss, 3), fixed(s.ConveyanceRatio, 2)})
 	}
 	t.table(fmt.Sprintf("subreach\tlength\tfall\tQ alone %s\tflow\tk\tfriction loss\tvel. head change\teddy loss\tK down/up", r.Units.Discharge()), rows)
@@ -350,7 +366,7 @@ func saTextChecks(t *textReport, r reach.SlopeArea) {
 	t.line("Quality checks (%d of %d pass)", pass, len(r.Checks))
 	var rows [][]string
 	for _, c := range r.Checks {
-		rows = append(rows, []string{c.Status(), c.Name, sig(c.Value, 4) + " " + c.Relation + " " + sig(c.Limit, 4), c.Source})
+		rows = append(rows, []string{c.Status(), c.Name, rating.PlainFigures(c.Value, 4) + " " + c.Relation + " " + rating.PlainFigures(c.Limit, 4), c.Source})
 	}
 	t.table("status\tcheck\tvalue vs limit\tsource", rows)
 }
@@ -374,9 +390,9 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 		}
 	}
 	t.line("  water surfaces standard deviation %s %s (mean of the marks used)", strings.Join(sds, ", "), L)
-	t.line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", sig(un.P05, 4), sig(un.P50, 4), sig(un.P95, 4), sig(un.Mean, 4), sig(un.SD, 4), Q)
+	t.line("  discharge      p05 %s  p50 %s  p95 %s  mean %s  sd %s %s", rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P50, 4), rating.PlainFigures(un.P95, 4), rating.PlainFigures(un.Mean, 4), rating.PlainFigures(un.SD, 4), Q)
 	t.line("  draws          %d, %d without a solution", un.Draws, un.Failed)
-	t.line("  dQ/dn          %s %s per 0.001 of every n", sig(un.DQDNPerMilli, 4), Q)
+	t.line("  dQ/dn          %s %s per 0.001 of every n", rating.PlainFigures(un.DQDNPerMilli, 4), Q)
 	parts := make([]string, len(un.DQDH))
 	for i, v := range un.DQDH {
 		id := ""

@@ -133,3 +133,67 @@ func TestSlopeAreaTextLengthDecimals(t *testing.T) {
 		})
 	}
 }
+
+// A subreach whose velocity heads are equal (no change) reads uniform in
+// the text and JSON reports, not contracting; expanding and contracting
+// ones keep their words.
+func TestSlopeAreaFlowWords(t *testing.T) {
+	nan := math.NaN()
+	res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
+		SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan,
+		Subreaches: []reach.Subreach{
+			{From: "A", To: "B", Discharge: nan, VelocityHeadChange: 0},
+			{From: "B", To: "C", Discharge: nan, VelocityHeadChange: -0.2},
+			{From: "C", To: "D", Discharge: nan, VelocityHeadChange: 0.2, Expanding: true, EddyK: 0.5},
+		}}
+	var text, js bytes.Buffer
+	if err := results.WriteSlopeAreaText(&text, reach.Report{Result: res}); err != nil {
+		t.Fatal(err)
+	}
+	if err := results.WriteSlopeAreaJSON(&js, reach.Report{Result: res}); err != nil {
+		t.Fatal(err)
+	}
+	for i, want := range []string{"uniform", "contracting", "expanding"} {
+		sr := res.Subreaches[i]
+		found := false
+		for _, line := range strings.Split(text.String(), "\n") {
+			f := strings.Fields(line)
+			if len(f) > 5 && strings.Join(f[:3], " ") == sr.From+" to "+sr.To {
+				found = true
+				if f[6] != want {
+					t.Errorf("text row %q: flow %q, want %q", line, f[6], want)
+				}
+			}
+		}
+		if !found {
+			t.Errorf("no text row for %s to %s", sr.From, sr.To)
+		}
+		if n := strings.Count(js.String(), `"flow": "`+want+`"`); n != 1 {
+			t.Errorf("JSON has %d subreaches of flow %q, want 1", n, want)
+		}
+	}
+}
+
+// The console summaries write discharges in plain decimal to four
+// significant figures, never with an exponent: 1362 ft3/s, band 1178 to
+// 1558, not 1.36e+03 (1.18e+03 to 1.56e+03); a rating's top discharge
+// 4184, not 4.18e+03.
+func TestSummaryDischargesPlain(t *testing.T) {
+	un := reach.Uncertainty{Draws: 5000, P05: 1177.51, P50: 1356.4, P95: 1557.68}
+	rep := reach.Report{Result: reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.US, Discharge: 1362.097}, Uncertainty: &un}
+	var b bytes.Buffer
+	if err := results.WriteSlopeAreaSummary(&b, rep, "out.txt"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "wrote out.txt: slope-area peak discharge 1362 ft3/s (90 % band 1178 to 1558 ft3/s), 0 of 0 checks warn\n"; !strings.HasPrefix(b.String(), want) {
+		t.Errorf("got  %q\nwant %q", b.String(), want)
+	}
+	tab := rating.Table{Units: rating.US, Slope: 0.002, Rows: []rating.Row{{Stage: 400.6, Discharge: 0}, {Stage: 411, Discharge: 4184.2}}}
+	b.Reset()
+	if err := results.WriteRatingSummary(&b, rating.RatingReport{Table: tab}, "r.csv"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "wrote r.csv: 2 stage(s) from 400.600 to 411.000 ft, discharge 0 to 4184 ft3/s (slope 0.002, us units)\n"; !strings.HasPrefix(b.String(), want) {
+		t.Errorf("got  %q\nwant %q", b.String(), want)
+	}
+}

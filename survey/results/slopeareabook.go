@@ -130,15 +130,19 @@ func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 		{Name: "note", Width: 30},
 		{Name: "water_surface", Unit: L, Format: "0.000"},
 		{Name: "marks_used", Format: "0"},
+		{Name: "survey_note", Width: 60},
 	})
 	if err != nil {
 		return err
 	}
 	for i, sec := range rep.Result.Sections {
-		vals := []any{sec.ID, nil, sec.Distance, sec.Left, sec.Right, nil, nil, sec.WaterSurface, sec.MarksUsed}
+		vals := []any{sec.ID, nil, sec.Distance, sec.Left, sec.Right, nil, nil, sec.WaterSurface, sec.MarksUsed, nil}
 		if i < len(rep.Sections) {
 			rr := rep.Sections[i]
 			vals[1], vals[5], vals[6] = rr.Survey, rr.Quality.String(), rr.Note
+			if rr.SurveyNote != "" {
+				vals[9] = rr.SurveyNote
+			}
 		}
 		if err := s.Row(vals...); err != nil {
 			return err
@@ -215,11 +219,7 @@ func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 		return err
 	}
 	for _, sr := range rep.Result.Subreaches {
-		flow := "contracting"
-		if sr.Expanding {
-			flow = "expanding"
-		}
-		if err := s.Row(sr.From, sr.To, sr.Length, sr.Fall, sr.Discharge, flow, sr.EddyK,
+		if err := s.Row(sr.From, sr.To, sr.Length, sr.Fall, sr.Discharge, sr.Flow(), sr.EddyK,
 			sr.FrictionLoss, sr.VelocityHeadChange, sr.EddyLoss, sr.ConveyanceRatio); err != nil {
 			return err
 		}

@@ -48,7 +48,7 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 	fmt.Fprintf(bw, "wrote %s: %d stage(s)", path, len(t.Rows))
 	if lo, hi, ok := t.Extremes(); ok {
 		fmt.Fprintf(bw, " from %.3f to %.3f %s, discharge %s to %s %s",
-			lo.Stage, hi.Stage, u.Length(), sig(lo.Discharge, 3), sig(hi.Discharge, 3), u.Discharge())
+			lo.Stage, hi.Stage, u.Length(), rating.PlainFigures(lo.Discharge, 4), rating.PlainFigures(hi.Discharge, 4), u.Discharge())
 	}
 	fmt.Fprintf(bw, " (slope %g, %s units)\n", t.Slope, u)
 	return endSummary(bw, rep.Warnings)
@@ -98,9 +98,9 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 	bw := bufio.NewWriter(w)
 	r := rep.Result
-	fmt.Fprintf(bw, "wrote %s: %s peak discharge %s %s", path, r.Method, sig(r.Discharge, 3), r.Units.Discharge())
+	fmt.Fprintf(bw, "wrote %s: %s peak discharge %s %s", path, r.Method, rating.PlainFigures(r.Discharge, 4), r.Units.Discharge())
 	if u := rep.Uncertainty; u != nil {
-		fmt.Fprintf(bw, " (90 %% band %s to %s %s)", sig(u.P05, 3), sig(u.P95, 3), r.Units.Discharge())
+		fmt.Fprintf(bw, " (90 %% band %s to %s %s)", rating.PlainFigures(u.P05, 4), rating.PlainFigures(u.P95, 4), r.Units.Discharge())
 	}
 	warn := 0
 	for _, c := range r.Checks {
