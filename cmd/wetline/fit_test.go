@@ -323,6 +323,12 @@ func TestFitUsageErrors(t *testing.T) {
 		{"fit", fitDemoGaugings, "--method", "lsq", "--draws", "100"},
 		{"fit", fitDemoGaugings, "--method", "lsq", "--show-unconverged"},
 		{"fit", fitDemoGaugings, "--draws", "0"},
+		// Memory bound: at most gauged.MaxChains chains and
+		// gauged.MaxKeptDraws draws in all (the trial's 999999999999 draws
+		// ran out of memory).
+		{"fit", fitDemoGaugings, "--draws", "999999999999"},
+		{"fit", fitDemoGaugings, "--chains", "100000"},
+		{"fit", fitDemoGaugings, "--chains", "8", "--draws", "300000"},
 		{"fit", fitDemoGaugings, "--n-cv", "0.1"},
 		{"fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--n-cv", "-0.1"},
 		{"fit", fitDemoGaugings, "--crest-cv", "0.1"},

@@ -245,3 +245,20 @@ func TestBayesGivenBreaksHoldGaugings(t *testing.T) {
 		t.Errorf("floodplain from %g, warnings %q", f.Controls[1].From, f.Warnings)
 	}
 }
+
+// The chains and draws of a Bayesian fit are bounded so that its
+// posterior fits in memory: more than MaxChains chains, or more than
+// MaxKeptDraws draws in all (pilot iterations included), is
+// ErrBayesOptions before anything is computed.
+func TestBayesDrawsBounded(t *testing.T) {
+	gs := []gauged.Gauging{{Stage: 0.5, Discharge: 1}, {Stage: 1, Discharge: 4}, {Stage: 1.5, Discharge: 9}, {Stage: 2, Discharge: 16}}
+	for _, o := range []gauged.BayesOptions{
+		{Chains: gauged.MaxChains + 1, Draws: 100},
+		{Chains: 1, Draws: gauged.MaxKeptDraws + 1},
+		{Chains: 4, Draws: gauged.MaxKeptDraws / 4},
+	} {
+		if _, err := gauged.FitBayes(gs, o); !errors.Is(err, gauged.ErrBayesOptions) {
+			t.Errorf("%d chains of %d draws: %v, want ErrBayesOptions", o.Chains, o.Draws, err)
+		}
+	}
+}
