@@ -94,6 +94,31 @@ func TestRowLimit(t *testing.T) {
 	}
 }
 
+// A stage record is bounded by its own limit of readings, not by the
+// table's rows (a decade of readings a minute apart is 5.3 million): beyond
+// it the record is refused at the first row over, naming the limit and how
+// to raise it, and reading stops there (a workbook sheet is read by the
+// same builder).
+func TestStageRecordReadingLimit(t *testing.T) {
+	t.Setenv(EnvMaxReadings, "100")
+	t.Setenv(EnvMaxRows, "10") // the table's limit does not apply
+	var b strings.Builder
+	b.WriteString("time,stage\n")
+	start := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC)
+	for i := range 150 {
+		fmt.Fprintf(&b, "%s,1.5\n", start.Add(time.Duration(i)*time.Minute).Format("2006-01-02T15:04"))
+	}
+	_, err := ParseStageRecord(strings.NewReader(b.String()), "long.csv", StageRecordOptions{})
+	var pe *ParseError
+	if !errors.Is(err, ErrTooManyRows) || !errors.As(err, &pe) || pe.Row != 102 || !strings.Contains(err.Error(), EnvMaxReadings) || !strings.Contains(err.Error(), "100 readings") {
+		t.Errorf("150 readings over a limit of 100: %v, want ErrTooManyRows at line 102", err)
+	}
+	t.Setenv(EnvMaxReadings, "150")
+	if r, err := ParseStageRecord(strings.NewReader(b.String()), "long.csv", StageRecordOptions{}); err != nil || r.Stages.Len() != 150 {
+		t.Errorf("150 readings at the limit: %v", err)
+	}
+}
+
 // Devices, pipes and folders are refused without reading them; a pipe
 // without a writer does not make the reader wait.
 func TestSpecialFilesRefused(t *testing.T) {
@@ -221,7 +246,7 @@ func TestLimitVariables(t *testing.T) {
 			return err
 		},
 	}
-	for _, name := range []string{EnvMaxBytes, EnvMaxRows, EnvMaxCells} {
+	for _, name := range []string{EnvMaxBytes, EnvMaxRows, EnvMaxCells, EnvMaxReadings} {
 		for _, value := range []string{"abc", "-1", "0", "1e6", "1.5", " 100", "99999999999999999999"} {
 			t.Run(name+"="+value, func(t *testing.T) {
 				t.Setenv(name, value)

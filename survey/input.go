@@ -28,6 +28,10 @@ type Limits struct {
 	// Cells bounds the cells of a table, rows times used columns (default
 	// DefaultMaxCells; WETLINE_MAX_CELLS).
 	Cells int
+	// Readings bounds the rows of a stage record, which is read into
+	// compact arrays rather than as a table (default DefaultMaxReadings;
+	// WETLINE_MAX_READINGS).
+	Readings int
 }
 
 // Default limits of an input file.
@@ -35,13 +39,18 @@ const (
 	DefaultMaxBytes = 512 << 20 // 512 MiB
 	DefaultMaxRows  = 1_000_000
 	DefaultMaxCells = 10_000_000
+	// DefaultMaxReadings is ten years of readings a minute apart (5.3
+	// million) with room to spare: 10 million readings took 825 MB at
+	// peak to read (the record's 1-minute benchmark scaled, 2-core Xeon).
+	DefaultMaxReadings = 10_000_000
 )
 
 // Environment variables that raise the limits for one run.
 const (
-	EnvMaxBytes = "WETLINE_MAX_BYTES"
-	EnvMaxRows  = "WETLINE_MAX_ROWS"
-	EnvMaxCells = "WETLINE_MAX_CELLS"
+	EnvMaxBytes    = "WETLINE_MAX_BYTES"
+	EnvMaxRows     = "WETLINE_MAX_ROWS"
+	EnvMaxCells    = "WETLINE_MAX_CELLS"
+	EnvMaxReadings = "WETLINE_MAX_READINGS"
 )
 
 // Causes of an input that is refused before it is read, for errors.Is.
@@ -63,11 +72,12 @@ var (
 )
 
 // ErrLimitValue is the cause of a limit variable (EnvMaxBytes, EnvMaxRows,
-// EnvMaxCells) set to a value that cannot be used.
+// EnvMaxCells, EnvMaxReadings) set to a value that cannot be used.
 var ErrLimitValue = errors.New("not a whole number above zero")
 
 // EnvLimits returns the limits in force: the defaults, raised (or lowered)
-// by the environment variables EnvMaxBytes, EnvMaxRows and EnvMaxCells,
+// by the environment variables EnvMaxBytes, EnvMaxRows, EnvMaxCells and
+// EnvMaxReadings,
 // read at each call. A variable unset or empty leaves its default; one set
 // to anything but a whole number above zero (decimal digits, as 2000000)
 // is an error naming the variable and the value, wrapping ErrLimitValue
@@ -87,7 +97,11 @@ func EnvLimits() (Limits, error) {
 	if err != nil {
 		return Limits{}, err
 	}
-	return Limits{Bytes: size, Rows: int(rows), Cells: int(cells)}, nil
+	readings, err := envLimit(EnvMaxReadings, DefaultMaxReadings)
+	if err != nil {
+		return Limits{}, err
+	}
+	return Limits{Bytes: size, Rows: int(rows), Cells: int(cells), Readings: int(readings)}, nil
 }
 
 // envLimit reads one limit variable (see EnvLimits), def when it is unset

@@ -134,7 +134,9 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 			cs.header = h
 			continue
 		}
-		b.row(fields, line)
+		if b.row(fields, line); b.full() {
+			break
+		}
 	}
 	b.out.Site = siteOf(cs.meta)
 	return b.finish()
@@ -186,7 +188,9 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 		for _, c := range rec {
 			fields = append(fields, []byte(strings.TrimSpace(c)))
 		}
-		b.row(fields, n)
+		if b.row(fields, n); b.full() {
+			break
+		}
 	}
 	if err := rows.Error(); err != nil {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
@@ -210,6 +214,7 @@ type stageBuilder struct {
 	lastRow              int   // its row; 0 before the first
 	form                 offsetForm
 	errs                 cappedErrors
+	rows, maxRows        int // data rows read; the limit (Limits.Readings)
 }
 
 func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
@@ -217,7 +222,11 @@ func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, dat
 	if err != nil {
 		return nil, &ParseError{File: file, Sheet: sheet, Err: err}
 	}
-	return &stageBuilder{file: file, sheet: sheet, inWorkbook: inWorkbook, date1904: date1904, off: off,
+	lim, err := EnvLimits()
+	if err != nil {
+		return nil, err
+	}
+	return &stageBuilder{file: file, sheet: sheet, inWorkbook: inWorkbook, date1904: date1904, off: off, maxRows: lim.Readings,
 		out: &StageRecord{File: file, Sheet: sheet, Stages: record.Stages{Name: file}}}, nil
 }
 
@@ -259,9 +268,19 @@ func (b *stageBuilder) fail(row, col int, text []byte, err error) {
 	b.errs.add(&ParseError{File: b.file, Sheet: b.sheet, Row: row, Column: col + 1, Name: b.header[col], Text: string(text), Err: err})
 }
 
+// full reports that the record holds as many rows as the limit allows;
+// a row beyond it is an error (ErrTooManyRows) and reading stops.
+func (b *stageBuilder) full() bool { return b.rows > b.maxRows }
+
 // row reads one data row; a value after the header's last named column
-// is an error (ErrBeyondHeader) at its cell.
+// is an error (ErrBeyondHeader) at its cell. The row after the limit's
+// last is an error at its row, wrapping ErrTooManyRows (see full).
 func (b *stageBuilder) row(fields [][]byte, row int) {
+	if b.rows++; b.full() {
+		b.errs.add(&ParseError{File: b.file, Sheet: b.sheet, Row: row,
+			Err: fmt.Errorf("the stage record %w of %d readings: raise it with %s=ROWS", ErrTooManyRows, b.maxRows, EnvMaxReadings)})
+		return
+	}
 	if c := beyondHeader(fields, b.width); c >= 0 {
 		b.errs.add(beyondHeaderError(b.file, b.sheet, row, c, string(fields[c])))
 		return
