@@ -18,7 +18,8 @@ import (
 type Survey struct {
 	// Section is the ground line, n and banks, ready for subdivide.Compile.
 	Section subdivide.Section
-	// Labels holds each point's mark other than "bank" ("" for none).
+	// Labels holds each point's mark other than a bank mark (one of
+	// BankWords; "" for none).
 	Labels []string
 	// Notes holds each point's note column ("" for none).
 	Notes []string
@@ -123,7 +124,11 @@ var (
 // implausible station, elevation or n (see MaxCoordinate, MaxElevation,
 // MinN, MaxN), a station less than the one before, a blank n on the first
 // point of an n column or an n column with every cell blank (unless
-// opt.NGiven), a count of bank marks other than two.
+// opt.NGiven), a count of bank marks (any of BankWords) other than two
+// (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
+// "right bank" left of the other bank mark). A mark that looks like a
+// bank's but is not one of BankWords (bankfull, LB toe) is warned about
+// at its cell, unless opt.IgnoreBankMarks.
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
 	if err != nil {
@@ -148,6 +153,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 		return r.sv, err
 	}
 	if !opt.IgnoreBankMarks {
+		r.bankLikeWarnings()
 		if err := r.banks(); err != nil {
 			return r.sv, err
 		}
@@ -166,6 +172,7 @@ type sectionReader struct {
 	ns             []float64 // n given on each row (NaN blank)
 	bankAt         []int     // indices of points marked bank
 	bankRows       []Record
+	bankLike       []Record // rows whose mark looks like a bank's but is not one of BankWords
 	// coords reports a coordinate survey, whose easting and northing
 	// columns are cx and cy and whose points' coordinates are east, north.
 	coords      bool
@@ -262,10 +269,12 @@ func (r *sectionReader) point(rec Record) {
 	r.ns = append(r.ns, n)
 	r.sv.Rows = append(r.sv.Rows, rec.Row)
 	mark := strings.TrimSpace(r.t.Cell(rec, r.cm))
-	if strings.EqualFold(mark, MarkBank) {
+	if _, bank := readBankMark(mark); bank {
 		r.bankAt = append(r.bankAt, len(pts))
 		r.bankRows = append(r.bankRows, rec)
 		mark = ""
+	} else if bankLike(mark) {
+		r.bankLike = append(r.bankLike, rec)
 	}
 	r.sv.Labels = append(r.sv.Labels, mark)
 	r.sv.Notes = append(r.sv.Notes, r.t.Cell(rec, r.cnote))
@@ -320,7 +329,8 @@ func (r *sectionReader) roughness() error {
 	return nil
 }
 
-// banks sets the bank stations from the two points marked bank.
+// banks sets the bank stations from the two points with a bank mark (one
+// of BankWords), which must name their own sides when they name one.
 func (r *sectionReader) banks() error {
 	if r.cm < 0 || len(r.bankAt) == 0 {
 		return nil
@@ -334,7 +344,17 @@ func (r *sectionReader) banks() error {
 	if !(sec.LeftBank < sec.RightBank) {
 		return t.At(r.bankRows[1], r.cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
 	}
-	return nil
+	a, b := r.bankRows[0], r.bankRows[1]
+	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
+}
+
+// bankLikeWarnings warns, at its cell, of each mark that looks like a
+// bank's (see bankLike) but is not read as a bank mark.
+func (r *sectionReader) bankLikeWarnings() {
+	for _, rec := range r.bankLike {
+		r.sv.Warnings = append(r.sv.Warnings, r.t.At(rec, r.cm, fmt.Errorf(
+			"not read as a bank mark (the bank marks are %s): write one of them if the point bounds the main channel", strings.Join(BankWords(), ", "))).Error())
+	}
 }
 
 // gaps warns of a gap between stations over MaxGapFraction of the width,
