@@ -93,6 +93,36 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 	return SectionFromTable(t, opt)
 }
 
+// elevationNames are the names of the elevation column of a survey: its
+// name and its aliases (z, and elev or elev. as crews abbreviate it).
+func elevationNames() []string { return []string{ColElevation, "z", "elev", "elev."} }
+
+// ErrNWithLength is the cause of a header naming an n column with a
+// length unit ("N (ft)"): Manning's n has no unit, so the column is not
+// n, and is most often a northing.
+var ErrNWithLength = errors.New("a column named n with a length unit is not Manning's n, which has no unit")
+
+// nWithLength returns a ParseError (ErrNWithLength) at column col of
+// header h when it names n with a length unit ("N (ft)", "n [m]"), nil
+// otherwise. Such a column is refused, not read as northings: a one-letter
+// name is not taken for a coordinate, so nothing is guessed; the error
+// asks for northing (or y), and for easting (or x) for an E column with a
+// length unit beside it.
+func nWithLength(file, sheet string, h []string, row, col int) *ParseError {
+	if col < 0 || col >= len(h) || normName(h[col]) != ColN || !isLengthUnit(headerUnit(h[col])) {
+		return nil
+	}
+	advice := fmt.Sprintf("name it %s (or y) if it holds northings", ColNorthing)
+	for _, name := range h {
+		if normName(name) == "e" && isLengthUnit(headerUnit(name)) {
+			advice += fmt.Sprintf(", and name %s %s (or x)", echo(name), ColEasting)
+			break
+		}
+	}
+	return &ParseError{File: file, Sheet: sheet, Row: row, Column: col + 1, Name: h[col],
+		Err: fmt.Errorf("%w: %s", ErrNWithLength, advice)}
+}
+
 // Plausible bounds of survey values: beyond them a value is a typing
 // slip or a unit mistake, not a river. Lengths are in the survey's unit.
 const (
@@ -199,11 +229,19 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 		}
 	}
 	if !r.coords && r.cs < 0 {
+		if err := nWithLength(t.File, t.Sheet, t.Header, t.HeaderRow, t.Column(ColN)); err != nil {
+			return r, err
+		}
+		if c := t.Column("e"); c >= 0 && isLengthUnit(headerUnit(t.Header[c])) {
+			return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: t.Header[c],
+				Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey: name this column %q (or %q) if it holds eastings",
+					ErrMissingColumn, ColStation, ColEasting, ColNorthing, ColEasting, "x")}
+		}
 		return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: ColStation,
 			Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey (found: %s)",
 				ErrMissingColumn, ColStation, ColEasting, ColNorthing, headerList(t.Header))}
 	}
-	if r.ce, err = t.Require(ColElevation, "z"); err != nil {
+	if r.ce, err = t.Require(elevationNames()...); err != nil {
 		return r, err
 	}
 	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
@@ -211,6 +249,11 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	}
 	if r.cn, err = t.Optional(ColN, "manning_n", "mannings_n"); err != nil {
 		return r, err
+	}
+	if r.cn >= 0 {
+		if err := nWithLength(t.File, t.Sheet, t.Header, t.HeaderRow, r.cn); err != nil {
+			return r, err
+		}
 	}
 	r.cm = t.Column(ColMark)
 	r.cnote = t.Column(ColNote)

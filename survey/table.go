@@ -292,7 +292,9 @@ func (b *tableBuilder) header(rec []string, row int) error {
 // duplicateColumn returns a ParseError (ErrDuplicateColumn) at the second
 // cell of header h (at the given row of file and sheet) whose name, as
 // columns are matched (see Table.Column), repeats an earlier one; blank
-// names are ignored. It returns nil when every name is distinct.
+// names are ignored. It returns nil when every name is distinct. When one
+// of the two is n with a length unit ("N (ft)" beside "n"), the error is
+// ErrNWithLength at that one (see nWithLength).
 func duplicateColumn(file, sheet string, h []string, row int) error {
 	seen := map[string]int{}
 	for i, name := range h {
@@ -301,6 +303,12 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 			continue
 		}
 		if j, dup := seen[key]; dup {
+			if err := nWithLength(file, sheet, h, row, j); err != nil {
+				return err
+			}
+			if err := nWithLength(file, sheet, h, row, i); err != nil {
+				return err
+			}
 			return &ParseError{File: file, Sheet: sheet, Row: row, Column: i + 1, Name: strings.TrimSpace(name),
 				Err: fmt.Errorf("%w (also column %d)", ErrDuplicateColumn, j+1)}
 		}
@@ -982,7 +990,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		}
 		t := &Table{Header: trimAll(rec)}
 		coords := hasCoordinates(t)
-		return (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0, nil
+		return (t.Column(ColStation) >= 0 || coords) && t.Column(elevationNames()...) >= 0, nil
 	}
 	return false, rows.Error()
 }
