@@ -306,7 +306,8 @@ func (r *sectionReader) point(rec Record) {
 	}
 	pts := r.sv.Section.Points
 	if i := len(pts); i > 0 && okx && x < pts[i-1].Station {
-		r.add(rec, r.cs, subdivide.ErrOverhang)
+		r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
+			subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
 	}
 	r.sv.Section.Points = append(pts, subdivide.Point{Station: x, Elevation: z})
 	r.ns = append(r.ns, n)
