@@ -90,6 +90,8 @@ func FuzzParseRatingCSV(f *testing.F) {
 		"\ufeffstage;discharge\n1;2\n",
 		"# c\nStage (m),Discharge (m3/s)\n1,2,3\n",
 		"stage,discharge\n-2e5,0\n2,1e308\n",
+		"site,Kowhai Stream\ndatum,gauge datum\nstage,discharge\n1,2\n#2,1.5,3\n",
+		"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n",
 	} {
 		f.Add(s)
 	}
