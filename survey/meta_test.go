@@ -17,8 +17,8 @@ func TestCommentedData(t *testing.T) {
 		{"numbered rows", "no.,stage,discharge\n#1,1,4\n#2,1.2,5.8\n3,1.4,7.8\n", []int{2, 3}},
 		{"a comment", "no.,stage,discharge\n# checked by JK, with a comma\n3,1.4,7.8\n", nil},
 		{"above the header", "#1,2,3\nstage,discharge\n1,2\n", nil},
-		{"in a quoted note", "station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle\"\n1,0,\n", nil},
-		{"in a quoted note, CRLF", "station,elevation,note\r\n0,3,\"riffle crest\r\n#2 pools, riffle\"\r\n1,0,\r\n#4,5,6\r\n", []int{5}},
+		{"in a quoted note", "station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle, run\"\n1,0,\n", nil},
+		{"in a quoted note, CRLF", "station,elevation,note\r\n0,3,\"riffle crest\r\n#2 pools, riffle, run\"\r\n1,0,\r\n#4,5,6\r\n", []int{5}},
 		{"after a quoted note", "station,elevation,note\n0,3,\"two\nlines\"\n#3,1,x\n", []int{4}},
 		{"quoted comma in a comment", "station,elevation,note\n0,3,\n# checked,\"pools, riffle\"\n1,0,\n", nil},
 		{"last line without end", "stage,discharge\n1,2\n#2,3,4", []int{3}},
@@ -43,7 +43,7 @@ func headerLine(t *testing.T, text string) int {
 
 // ParseCSV warns of the hidden rows, and not of a quoted note's line.
 func TestCommentedDataWarning(t *testing.T) {
-	tab, err := ParseCSV(strings.NewReader("station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle\"\n1,0,\n"), "c.csv")
+	tab, err := ParseCSV(strings.NewReader("station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle, run\"\n1,0,\n"), "c.csv")
 	if err != nil || len(tab.Warnings) != 0 || len(tab.Records) != 2 {
 		t.Errorf("%v, warnings %q, %d records", err, tab.Warnings, len(tab.Records))
 	}
