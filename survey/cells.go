@@ -48,17 +48,22 @@ const MaxDeflateRatio = 1100
 // trusted.
 var ErrWorkbookZip = errors.New("not a usable workbook (damaged or forged zip directory)")
 
-// CheckWorkbookZip checks a workbook's zip directory before the workbook
+// checkWorkbookZip checks a workbook's zip directory before the workbook
 // is opened: the file must be a zip archive (ErrNotWorkbook when it is
 // not, saying when it looks like a text file renamed), the unpacked size
 // claimed by each entry must be one deflate can produce from its packed
 // size, and all entries together must stay within MaxWorkbookBytes. The
 // spreadsheet library allocates what an entry claims, so a small damaged
 // file could otherwise take gigabytes of memory. The rows of every sheet
-// must rise (ErrRowOrder).
-func CheckWorkbookZip(r io.ReaderAt, size int64) error {
-	_, err := checkWorkbookZip(r, size)
-	return err
+// must rise (ErrRowOrder). Readers check the directory when they open a
+// workbook and each sheet when they choose it (chooseSheet); this checks
+// every sheet at once.
+func checkWorkbookZip(r io.ReaderAt, size int64) error {
+	zr, err := checkZipDirectory(r, size)
+	if err != nil {
+		return err
+	}
+	return scanEverySheet(zr, markedStyles(zr))
 }
 
 // unsavedCells are the cells of a sheet holding a formula with no saved
@@ -124,19 +129,8 @@ func (d dateCells) has(row, col int64) bool {
 	return i < len(runs) && runs[i].first <= row
 }
 
-// checkWorkbookZip is CheckWorkbookZip; it also returns, by sheet name,
-// what the scan of each sheet found (sheets with nothing to tell are
-// left out).
-func checkWorkbookZip(r io.ReaderAt, size int64) (map[string]sheetScan, error) {
-	zr, err := checkZipDirectory(r, size)
-	if err != nil {
-		return nil, err
-	}
-	return scanEverySheet(zr, markedStyles(zr))
-}
-
 // checkZipDirectory checks a workbook's size, its zip signature and the
-// sizes its zip directory claims, as CheckWorkbookZip tells, and returns
+// sizes its zip directory claims, as checkWorkbookZip tells, and returns
 // the archive; it reads no sheet.
 func checkZipDirectory(r io.ReaderAt, size int64) (*zip.Reader, error) {
 	if size > MaxWorkbookBytes {
@@ -147,7 +141,7 @@ func checkZipDirectory(r io.ReaderAt, size int64) (*zip.Reader, error) {
 	}
 	zr, err := zip.NewReader(r, size)
 	if err != nil {
-		return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, err)
+		return nil, fmt.Errorf("%w: %w", ErrWorkbookZip, err)
 	}
 	var total uint64
 	for _, f := range zr.File {
@@ -172,11 +166,12 @@ func isWorksheetPart(name string) bool {
 }
 
 // scanEverySheet scans every sheet of an archive (styles is
-// markedStyles') and returns, by sheet name, what was found in the sheets
-// with something to tell: each sheet's part as the workbook's
-// relationships name it, or, when they cannot be read, every part under
-// xl/worksheets/ (and then a finding is an error, as it cannot be placed).
-func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) (map[string]sheetScan, error) {
+// markedStyles') for the errors of scanSheet: each sheet's part as the
+// workbook's relationships name it, or, when they cannot be read, every
+// part under xl/worksheets/, and then a sheet with something to tell (a
+// formula with no saved value, a boolean, percent or date cell) is an
+// error too (ErrWorkbookZip), as what it holds cannot be placed.
+func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) error {
 	names, perr := sheetParts(zr)
 	if perr != nil {
 		for _, f := range zr.File {
@@ -185,33 +180,23 @@ func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) (map[string]sheet
 			}
 			sc, err := scanSheet(f, styles)
 			if err != nil {
-				return nil, err
+				return err
 			}
 			if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
-				return nil, fmt.Errorf("%w: %v", ErrWorkbookZip, perr)
+				return fmt.Errorf("%w: %w", ErrWorkbookZip, perr)
 			}
 		}
-		return nil, nil
+		return nil
 	}
-	out := map[string]sheetScan{}
 	files := partFiles(zr, names)
 	for _, name := range slices.Sorted(maps.Keys(files)) { // the first error the same each run
-		f := files[name]
-		if f == nil {
-			continue
-		}
-		sc, err := scanSheet(f, styles)
-		if err != nil {
-			return nil, err
-		}
-		if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
-			out[name] = sc
+		if f := files[name]; f != nil {
+			if _, err := scanSheet(f, styles); err != nil {
+				return err
+			}
 		}
 	}
-	if len(out) == 0 {
-		return nil, nil
-	}
-	return out, nil
+	return nil
 }
 
 // sheetScanner scans the sheets of a workbook's archive as they are read,
@@ -262,7 +247,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 func (s *sheetScanner) findParts() error {
 	names, err := sheetParts(s.zr)
 	if err != nil {
-		if _, err := scanEverySheet(s.zr, s.styles); err != nil {
+		if err := scanEverySheet(s.zr, s.styles); err != nil {
 			return err
 		}
 		s.parts = map[string]*zip.File{}
@@ -297,7 +282,7 @@ func zipSignature(r io.ReaderAt, size int64) error {
 	head := make([]byte, min(size, 4096))
 	n, err := r.ReadAt(head, 0)
 	if err != nil && err != io.EOF {
-		return fmt.Errorf("%w: %v", ErrWorkbookZip, err)
+		return fmt.Errorf("%w: %w", ErrWorkbookZip, err)
 	}
 	head = head[:n]
 	if bytes.HasPrefix(head, zipMagic) {
@@ -328,22 +313,33 @@ func textLike(b []byte) bool {
 // only guess at.
 var ErrRowOrder = errors.New("a sheet's rows are out of order or repeated")
 
+// rowOrderError is an ErrRowOrder of a sheet's scan, with the row (its
+// r attribute) that does not rise, for the ParseError of the sheet.
+type rowOrderError struct {
+	row int
+	err error
+}
+
+func (e *rowOrderError) Error() string { return e.err.Error() }
+func (e *rowOrderError) Unwrap() error { return e.err }
+
 // scanSheet reads a worksheet's XML as a sequence of tags, without
 // decoding it: the numbers of its rows (their r attributes) must rise
-// strictly (ErrRowOrder), and the cells holding a formula (an f element)
-// but no saved value (no v element) are returned, with the boolean cells
+// strictly (ErrRowOrder, as a *rowOrderError naming the row), and the cells holding a formula (an f element)
+// but no saved value (no v element, or an empty one, <v/> or <v></v>,
+// but for a formula of text, t="str", whose result may be "") are returned, with the boolean cells
 // and the number cells whose style is marked in styles (see markedStyles).
 func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 	var out sheetScan
 	u := &out.unsaved
 	rc, err := f.Open()
 	if err != nil {
-		return out, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+		return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
 	}
 	defer rc.Close()
 	sc := tagScanner{br: bufio.NewReaderSize(rc, 64<<10)}
 	var last, row, col int64
-	inCell, formula, value := false, false, false
+	inCell, formula, value, text := false, false, false, false
 	mark := func(m cellMark) {
 		if out.marks == nil {
 			out.marks = map[cellAt]cellMark{}
@@ -356,13 +352,13 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 			return out, nil
 		}
 		if err != nil {
-			return out, fmt.Errorf("%w: %s: %v", ErrWorkbookZip, f.Name, err)
+			return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
 		}
 		switch name := string(tag.name); {
 		case name == "row" && !tag.end:
 			n := attrNumber(tag.attrs, "r")
 			if n > 0 && n <= last {
-				return out, fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)
+				return out, &rowOrderError{row: int(n), err: fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)}
 			}
 			if n > 0 {
 				last, row = n, n
@@ -382,7 +378,9 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 			if !inCell {
 				break
 			}
-			switch t := string(attrValue(tag.attrs, "t")); {
+			t := string(attrValue(tag.attrs, "t"))
+			text = t == "str"
+			switch {
 			case t == "b":
 				mark(markBoolean)
 			case (t == "" || t == "n") && len(styles) > 0:
@@ -396,7 +394,22 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 		case name == "f" && !tag.end:
 			formula = inCell
 		case name == "v" && !tag.end:
-			value = inCell
+			// An empty value (<v/>, <v></v>) is no saved value, as a
+			// program that writes formulas without computing them
+			// leaves it, but for a text result (t="str"), which a
+			// formula giving "" saves empty.
+			if !inCell {
+				break
+			}
+			if tag.self {
+				value = value || text
+				break
+			}
+			empty, err := sc.blankText()
+			if err != nil {
+				return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
+			}
+			value = value || !empty || text
 		case name == "c" && tag.end:
 			if inCell && formula && !value {
 				if u.count == 0 {
@@ -411,8 +424,8 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 
 // xmlTag is one tag of XML text: its name without a namespace prefix
 // (valid until the next tag is read), whether it ends an element (</c>),
-// and for the start tags of rows and cells whether it is empty (<c/>) and
-// the text of its attributes.
+// and for the start tags of rows, cells and values whether it is empty
+// (<c/>) and the text of its attributes.
 type xmlTag struct {
 	name      []byte
 	end, self bool
@@ -463,7 +476,7 @@ func (s *tagScanner) next() (xmlTag, error) {
 	if i := bytes.IndexByte(name, ':'); i >= 0 {
 		name = name[i+1:]
 	}
-	if tag.end || (string(name) != "row" && string(name) != "c") {
+	if tag.end || (string(name) != "row" && string(name) != "c" && string(name) != "v") {
 		tag.name = name
 		return tag, nil
 	}
@@ -494,6 +507,28 @@ func (s *tagScanner) next() (xmlTag, error) {
 		tag.name = tag.name[i+1:]
 	}
 	return tag, nil
+}
+
+// blankText reads the text after the tag just read, up to the next tag,
+// and reports whether it is empty or white space alone. The next tag is
+// left to be read.
+func (s *tagScanner) blankText() (bool, error) {
+	blank := true
+	for {
+		b, err := s.br.ReadSlice('<')
+		if err == nil {
+			b = b[:len(b)-1]
+		}
+		blank = blank && len(bytes.TrimSpace(b)) == 0
+		switch {
+		case err == nil:
+			return blank, s.br.UnreadByte()
+		case err == io.EOF:
+			return blank, nil
+		case err != bufio.ErrBufferFull:
+			return false, err
+		}
+	}
 }
 
 // nameEnd returns the index of the first byte of b that ends a tag's

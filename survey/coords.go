@@ -280,7 +280,9 @@ const flowAlongTolerance = 0.05
 
 // stationOrder checks the stations run one way in survey order: rising,
 // or falling (a survey taken right to left, whose order is then
-// reversed). A point that folds back is an error at its row.
+// reversed). A point that folds back is an error at its row, naming the
+// row of the point before it in survey order (either may be the one out
+// of place).
 func stationOrder(t *Table, rows []Record, st []float64, pr *Projection) ([]int, error) {
 	order := make([]int, len(st))
 	for i := range order {
@@ -295,7 +297,8 @@ func stationOrder(t *Table, rows []Record, st []float64, pr *Projection) ([]int,
 	for k := 1; k < len(order); k++ {
 		if st[order[k]] < st[order[k-1]] {
 			ce, _, _, _ := coordinateColumns(t)
-			return nil, t.At(rows[order[k]], ce, fmt.Errorf("%w (station %.3f after %.3f)", ErrFoldBack, st[order[k]], st[order[k-1]]))
+			return nil, t.At(rows[order[k]], ce, fmt.Errorf("%w (station %.3f after %.3f at row %d: one of the two is out of place)",
+				ErrFoldBack, st[order[k]], st[order[k-1]], rows[order[k-1]].Row))
 		}
 	}
 	return order, nil

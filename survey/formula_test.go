@@ -146,6 +146,51 @@ func TestFormulaWithoutSavedValue(t *testing.T) {
 	}
 }
 
+// A formula whose saved value is empty (<v></v>, <v/>, as a program that
+// writes formulas without computing them may leave it) has no saved
+// value; a text formula's empty value (t="str", the result "") is one.
+func TestFormulaEmptyValue(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, cell string
+		unsaved    bool
+	}{
+		{"empty element", `<c r="B3"><f>A3*2</f><v></v></c>`, true},
+		{"empty tag", `<c r="B3"><f>A3*2</f><v/></c>`, true},
+		{"spaces", `<c r="B3"><f>A3*2</f><v> </v></c>`, true},
+		{"value", `<c r="B3"><f>A3*2</f><v>2</v></c>`, false},
+		{"empty text result", `<c r="B3" t="str"><f>""</f><v></v></c>`, false},
+	} {
+		data := rewriteZip(t, readFile(t, formulaBook(t, false)), func(name string, b []byte) []byte {
+			if name != "xl/worksheets/sheet1.xml" {
+				return b
+			}
+			i, j := bytes.Index(b, []byte(`<c r="B3"`)), bytes.Index(b, []byte(`<f>A3*2</f>`))
+			if i < 0 || j < 0 {
+				t.Fatalf("no formula in %s", b)
+			}
+			end := j + bytes.Index(b[j:], []byte("</c>")) + len("</c>")
+			return append(append(append([]byte(nil), b[:i]...), tc.cell...), b[end:]...)
+		})
+		_, err := ParseWorkbook(bytes.NewReader(data), "field.xlsx", "xs")
+		switch {
+		case tc.unsaved && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), "field.xlsx['xs']!B3: a formula with no saved value")):
+			t.Errorf("%s: %v, want ErrFormulaNoValue at B3", tc.name, err)
+		case !tc.unsaved && err != nil:
+			t.Errorf("%s: %v", tc.name, err)
+		}
+	}
+}
+
+func readFile(t *testing.T, path string) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
+
 // FuzzScanSheet feeds worksheet XML to the scan that checks row order and
 // finds formulas with no saved value: no panic, errors are ErrRowOrder or
 // ErrWorkbookZip, and a cell found lies on the sheet.
@@ -157,6 +202,10 @@ func FuzzScanSheet(f *testing.F) {
 		`<c r="XFD1048576"><f>1</f></c><c r='A0'><f/></c><!-- <c><f>1</f></c> --><?xml version="1.0"?>`,
 		`<c r="A1" ` + strings.Repeat("s=\"1\" ", 200) + `><f>1</f></c>`,
 		`<row r="1"><c r="A1" s="2"><v>46174</v></c><c r="B1" s="1"><v>0.05</v></c></row><row r="2"><c r="A2" s="2"><v>46175.5</v></c></row><row r="4"><c r="A4" s="2"/></row>`,
+		// Formulas with an empty value: empty, a tag alone, spaces, a text
+		// result, a value cut off at the end of the part.
+		`<row r="12"><c r="C12"><f>B12*10</f><v></v></c><c r="D12"><f>1</f><v/></c><c r="E12"><f>1</f><v xml:space="preserve">  </v></c></row>`,
+		`<row r="1"><c r="A1" t="str"><f>""</f><v></v></c><c r="B1"><f>1</f><v>`,
 	} {
 		f.Add([]byte(s))
 	}
@@ -233,11 +282,12 @@ func TestRowOrderPerSheet(t *testing.T) {
 		t.Errorf("good sheet: %v", err)
 	}
 	_, err := ReadSection(p, "bad", SectionOptions{})
-	if !errors.Is(err, ErrRowOrder) || !strings.Contains(err.Error(), "two.xlsx['bad']") {
-		t.Errorf("bad sheet: %v, want ErrRowOrder at two.xlsx['bad']", err)
+	var pe *ParseError
+	if !errors.Is(err, ErrRowOrder) || !errors.As(err, &pe) || pe.Row != 2 || !strings.Contains(err.Error(), "two.xlsx['bad'] row 2: ") {
+		t.Errorf("bad sheet: %v, want ErrRowOrder at two.xlsx['bad'] row 2", err)
 	}
-	if err := CheckWorkbookZip(bytes.NewReader(data), int64(len(data))); !errors.Is(err, ErrRowOrder) {
-		t.Errorf("CheckWorkbookZip: %v, want ErrRowOrder", err)
+	if err := checkWorkbookZip(bytes.NewReader(data), int64(len(data))); !errors.Is(err, ErrRowOrder) {
+		t.Errorf("checkWorkbookZip: %v, want ErrRowOrder", err)
 	}
 }
 

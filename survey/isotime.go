@@ -371,8 +371,9 @@ func checkOffset(off time.Duration) (int64, error) {
 // (see ParseISOTime), or in a workbook a date serial (local time at the
 // offset off, in seconds), rounded to the second. zoned tells a text
 // written with a UTC offset of its own (a serial has none). In a CSV file
-// a bare number is ErrSerialInCSV; a year outside MinYear to MaxYear is
-// ErrYear.
+// a bare number is ErrSerialInCSV; in a workbook a number that would be a
+// date before PlainSerialMinYear is ErrPlainNumberTime; a year outside
+// MinYear to MaxYear is ErrYear.
 func cellTime[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec int64, zoned bool, err error) {
 	sec, _, zoned, err = cellTimeZone(s, inWorkbook, date1904, off)
 	return sec, zoned, err
@@ -407,8 +408,11 @@ func cellTimeZone[T string | []byte](s T, inWorkbook, date1904 bool, off int64) 
 // as a date serial in a time column. A spreadsheet leaves a time made by a
 // formula a plain number, and such serials of recent years are read; a
 // smaller number (a day of the year, hours since the start) would be a
-// date in 1900 to 1949, which no gauge record holds, and is refused
-// (ErrPlainNumberTime).
+// date in 1900 to 1949, and is refused (ErrPlainNumberTime). 1950 is this
+// project's choice, not a limit of gauge records (times back to MinYear
+// are read): a time before it is taken from a date-formatted cell or ISO
+// 8601 text, never from a bare number, which is far more often a count
+// than a date of such a year.
 const PlainSerialMinYear = 1950
 
 // ErrPlainNumberTime is the cause of a plain number cell in a time column

@@ -3,6 +3,9 @@ package survey
 import (
 	"bufio"
 	"bytes"
+	"encoding/csv"
+	"io"
+	"math"
 	"strings"
 
 	"wetline/rating"
@@ -123,30 +126,72 @@ func commentRow(rec []string, belowHeader bool) (line string, ok bool) {
 // commentedData returns the numbers of the lines of CSV text below its
 // header (on line headerRow) that start with '#', and so are comments,
 // but hold two or more values after the first field, as a data row does
-// ("#3,2024-05-01,1.2,3.4"): a '#' numbering a row hides it.
+// ("#3,2024-05-01,1.2,3.4"): a '#' numbering a row hides it. The lines
+// are told as ParseCSV's encoding/csv reader tells them: a line inside a
+// quoted field ("a note\n#2 pools, riffle") is part of its record, not a
+// comment, and a comment line's fields are split as a record's (a quoted
+// comma does not part two values). Text that encoding/csv cannot read is
+// told up to the fault (ParseCSV refuses it).
 func commentedData(data []byte, headerRow int) []int {
 	if !bytes.Contains(data, []byte("\n#")) {
 		return nil
 	}
+	cr := csv.NewReader(bytes.NewReader(data))
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	cr.TrimLeadingSpace = true
+	cr.ReuseRecord = true
 	var out []int
-	sc := bufio.NewScanner(bytes.NewReader(data))
-	sc.Buffer(nil, 1<<20)
-	for n := 1; sc.Scan(); n++ {
-		line := sc.Text() // a comment begins at the line's first byte, as encoding/csv reads it
-		if n <= headerRow || !strings.HasPrefix(line, "#") {
-			continue
-		}
-		values := 0
-		for _, f := range strings.Split(line, ",")[1:] {
-			if strings.TrimSpace(f) != "" {
-				values++
+	line, off := 1, 0 // off is the first byte of line
+	// comments looks at the lines from line up to before, which the
+	// reader passed over: blank lines and comments.
+	comments := func(before int) {
+		for line < before && off < len(data) {
+			end := len(data)
+			if j := bytes.IndexByte(data[off:], '\n'); j >= 0 {
+				end = off + j
 			}
-		}
-		if values >= 2 {
-			out = append(out, n)
+			if text := data[off:end]; line > headerRow && bytes.HasPrefix(text, []byte("#")) && lineValues(text) >= 2 {
+				out = append(out, line)
+			}
+			line, off = line+1, end+1
 		}
 	}
-	return out
+	for {
+		_, err := cr.Read()
+		if err != nil {
+			if err == io.EOF {
+				comments(math.MaxInt)
+			}
+			return out
+		}
+		start, _ := cr.FieldPos(0)
+		comments(start)
+		end := int(cr.InputOffset())
+		line += bytes.Count(data[off:end], []byte("\n"))
+		off = end
+	}
+}
+
+// lineValues counts the fields after the first of one line of CSV text
+// that are not blank, the fields split as encoding/csv splits a record
+// (quotes taken loosely, as the line is a comment).
+func lineValues(text []byte) int {
+	r := csv.NewReader(bytes.NewReader(text))
+	r.FieldsPerRecord = -1
+	r.LazyQuotes = true
+	r.TrimLeadingSpace = true
+	rec, err := r.Read()
+	if err != nil {
+		rec = strings.Split(string(text), ",")
+	}
+	n := 0
+	for i := 1; i < len(rec); i++ {
+		if strings.TrimSpace(rec[i]) != "" {
+			n++
+		}
+	}
+	return n
 }
 
 // siteRow takes a row that belongs to no table: in a sheet (inSheet) a

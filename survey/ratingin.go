@@ -106,6 +106,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out.Bottom, out.Top = math.Inf(1), math.Inf(-1)
 	bottomFromDepth := false
 	last := math.NaN() // the stage of the row before, read or not
+	var rows []int     // the row of each of out.Rows
 	for _, rec := range t.Records {
 		if cv >= 0 {
 			from, given, perr := vf.read(rec)
@@ -147,6 +148,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 			out.Bottom = math.Min(out.Bottom, r.Stage)
 		}
 		out.Rows = append(out.Rows, r)
+		rows = append(rows, rec.Row)
 	}
 	if periods > 1 {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet,
@@ -164,9 +166,9 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	}
 	if !bottomFromDepth && len(out.Rows) > 0 {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",
-			filepath.Base(t.File)))
+			where(t, t.HeaderRow)))
 	}
-	if w := fallingDischarge(filepath.Base(t.File), out.Rows); w != "" {
+	if w := fallingDischarge(t, out.Rows, rows); w != "" {
 		out.Warnings = append(out.Warnings, w)
 	}
 	return out, nil
@@ -186,10 +188,12 @@ func ratingSection(t *Table) string {
 }
 
 // fallingDischarge words the warning of a table whose discharge falls as
-// stage rises (its rows in rising stage), "" when it never does: a
-// rating's discharge rises with stage, so the table may not be a rating,
-// or its section's conveyance drops where a floodplain starts to wet.
-func fallingDischarge(name string, rows []rating.Row) string {
+// stage rises (its rows in rising stage, read from the rows of t whose
+// numbers are in at), "" when it never does: a rating's discharge rises
+// with stage, so the table may not be a rating, or its section's
+// conveyance drops where a floodplain starts to wet. The warning is at the
+// first row whose discharge falls, and names the row before it.
+func fallingDischarge(t *Table, rows []rating.Row, at []int) string {
 	n, first := 0, -1
 	for i := 1; i < len(rows); i++ {
 		if rows[i].Discharge < rows[i-1].Discharge {
@@ -203,9 +207,9 @@ func fallingDischarge(name string, rows []rating.Row) string {
 		return ""
 	}
 	a, b := rows[first-1], rows[first]
-	return fmt.Sprintf("%s: discharge falls as stage rises at %d row(s), the first from %g at %g to %g at %g: "+
+	return fmt.Sprintf("%s: discharge falls as stage rises at %d row(s), the first from %g at %g (row %d) to %g at %g: "+
 		"a rating's discharge rises with stage; check the table (a section's conveyance can drop where a floodplain starts to wet)",
-		name, n, a.Discharge, a.Stage, b.Discharge, b.Stage)
+		where(t, at[first]), n, a.Discharge, a.Stage, at[first-1], b.Discharge, b.Stage)
 }
 
 // uniformSlope returns the friction slope (Q/K)² shared by every row with

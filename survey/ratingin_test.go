@@ -90,6 +90,8 @@ func FuzzParseRatingCSV(f *testing.F) {
 		"\ufeffstage;discharge\n1;2\n",
 		"# c\nStage (m),Discharge (m3/s)\n1,2,3\n",
 		"stage,discharge\n-2e5,0\n2,1e308\n",
+		"site,Kowhai Stream\ndatum,gauge datum\nstage,discharge\n1,2\n#2,1.5,3\n",
+		"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n",
 	} {
 		f.Add(s)
 	}
@@ -226,7 +228,8 @@ func TestRatingFallingDischarge(t *testing.T) {
 	for _, tc := range []struct {
 		body, want string
 	}{
-		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n4,5,3\n", "discharge falls as stage rises at 1 row(s), the first from 3 at 2 to 2 at 3"},
+		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n4,5,3\n", "r.csv:4: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 3) to 2 at 3"},
+		{"stage,discharge,depth\n1,0,0\n\n2,3,1\n\n3,2,2\n4,5,3\n", "r.csv:6: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 4) to 2 at 3"},
 		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,3,2\n4,5,3\n", ""},
 	} {
 		tab, err := RatingFromTable(mustCSV(t, tc.body), UnitChoice{})
@@ -236,6 +239,23 @@ func TestRatingFallingDischarge(t *testing.T) {
 		got := strings.Join(tab.Warnings, "\n")
 		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
 			t.Errorf("%q: warnings %q, want %q", tc.body, got, tc.want)
+		}
+	}
+}
+
+// The warnings of a rating table name its sheet and the row: the table
+// with no depth at its header, the falling discharge at its row.
+func TestRatingWarningsInSheet(t *testing.T) {
+	tab := mustCSV(t, "stage,discharge\n1,0\n2,3\n3,2\n")
+	tab.File, tab.Sheet = "field.xlsx", "XS-2"
+	r, err := RatingFromTable(tab, UnitChoice{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := strings.Join(r.Warnings, "\n")
+	for _, want := range []string{"field.xlsx['XS-2'] row 1: no depth column", "field.xlsx['XS-2'] row 4: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 3)"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("warnings %q, want %q", got, want)
 		}
 	}
 }

@@ -304,7 +304,7 @@ func (k TableKind) String() string {
 func KindOf(t *Table) TableKind {
 	rating := t.Column(ColRatingStage, ColGaugeHeight) >= 0 && t.Column(ColRatingDischarge) >= 0
 	coords := hasCoordinates(t)
-	section := (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0
+	section := (t.Column(ColStation) >= 0 || coords) && t.Column(elevationNames()...) >= 0
 	switch {
 	case rating && section:
 		return KindBoth

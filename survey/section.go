@@ -18,7 +18,8 @@ import (
 type Survey struct {
 	// Section is the ground line, n and banks, ready for subdivide.Compile.
 	Section subdivide.Section
-	// Labels holds each point's mark other than "bank" ("" for none).
+	// Labels holds each point's mark other than a bank mark (one of
+	// BankWords; "" for none).
 	Labels []string
 	// Notes holds each point's note column ("" for none).
 	Notes []string
@@ -92,6 +93,36 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 	return SectionFromTable(t, opt)
 }
 
+// elevationNames are the names of the elevation column of a survey: its
+// name and its aliases (z, and elev or elev. as crews abbreviate it).
+func elevationNames() []string { return []string{ColElevation, "z", "elev", "elev."} }
+
+// ErrNWithLength is the cause of a header naming an n column with a
+// length unit ("N (ft)"): Manning's n has no unit, so the column is not
+// n, and is most often a northing.
+var ErrNWithLength = errors.New("a column named n with a length unit is not Manning's n, which has no unit")
+
+// nWithLength returns a ParseError (ErrNWithLength) at column col of
+// header h when it names n with a length unit ("N (ft)", "n [m]"), nil
+// otherwise. Such a column is refused, not read as northings: a one-letter
+// name is not taken for a coordinate, so nothing is guessed; the error
+// asks for northing (or y), and for easting (or x) for an E column with a
+// length unit beside it.
+func nWithLength(file, sheet string, h []string, row, col int) *ParseError {
+	if col < 0 || col >= len(h) || normName(h[col]) != ColN || !isLengthUnit(headerUnit(h[col])) {
+		return nil
+	}
+	advice := fmt.Sprintf("name it %s (or y) if it holds northings", ColNorthing)
+	for _, name := range h {
+		if normName(name) == "e" && isLengthUnit(headerUnit(name)) {
+			advice += fmt.Sprintf(", and name %s %s (or x)", echo(name), ColEasting)
+			break
+		}
+	}
+	return &ParseError{File: file, Sheet: sheet, Row: row, Column: col + 1, Name: h[col],
+		Err: fmt.Errorf("%w: %s", ErrNWithLength, advice)}
+}
+
 // Plausible bounds of survey values: beyond them a value is a typing
 // slip or a unit mistake, not a river. Lengths are in the survey's unit.
 const (
@@ -123,7 +154,11 @@ var (
 // implausible station, elevation or n (see MaxCoordinate, MaxElevation,
 // MinN, MaxN), a station less than the one before, a blank n on the first
 // point of an n column or an n column with every cell blank (unless
-// opt.NGiven), a count of bank marks other than two.
+// opt.NGiven), a count of bank marks (any of BankWords) other than two
+// (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
+// "right bank" left of the other bank mark). A mark that looks like a
+// bank's but is not one of BankWords (bankfull, LB toe) is warned about
+// at its cell, unless opt.IgnoreBankMarks.
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
 	if err != nil {
@@ -148,6 +183,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 		return r.sv, err
 	}
 	if !opt.IgnoreBankMarks {
+		r.bankLikeWarnings()
 		if err := r.banks(); err != nil {
 			return r.sv, err
 		}
@@ -166,6 +202,7 @@ type sectionReader struct {
 	ns             []float64 // n given on each row (NaN blank)
 	bankAt         []int     // indices of points marked bank
 	bankRows       []Record
+	bankLike       []Record // rows whose mark looks like a bank's but is not one of BankWords
 	// coords reports a coordinate survey, whose easting and northing
 	// columns are cx and cy and whose points' coordinates are east, north.
 	coords      bool
@@ -192,11 +229,19 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 		}
 	}
 	if !r.coords && r.cs < 0 {
+		if err := nWithLength(t.File, t.Sheet, t.Header, t.HeaderRow, t.Column(ColN)); err != nil {
+			return r, err
+		}
+		if c := t.Column("e"); c >= 0 && isLengthUnit(headerUnit(t.Header[c])) {
+			return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: t.Header[c],
+				Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey: name this column %q (or %q) if it holds eastings",
+					ErrMissingColumn, ColStation, ColEasting, ColNorthing, ColEasting, "x")}
+		}
 		return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: ColStation,
 			Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey (found: %s)",
 				ErrMissingColumn, ColStation, ColEasting, ColNorthing, headerList(t.Header))}
 	}
-	if r.ce, err = t.Require(ColElevation, "z"); err != nil {
+	if r.ce, err = t.Require(elevationNames()...); err != nil {
 		return r, err
 	}
 	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
@@ -204,6 +249,11 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	}
 	if r.cn, err = t.Optional(ColN, "manning_n", "mannings_n"); err != nil {
 		return r, err
+	}
+	if r.cn >= 0 {
+		if err := nWithLength(t.File, t.Sheet, t.Header, t.HeaderRow, r.cn); err != nil {
+			return r, err
+		}
 	}
 	r.cm = t.Column(ColMark)
 	r.cnote = t.Column(ColNote)
@@ -256,16 +306,19 @@ func (r *sectionReader) point(rec Record) {
 	}
 	pts := r.sv.Section.Points
 	if i := len(pts); i > 0 && okx && x < pts[i-1].Station {
-		r.add(rec, r.cs, subdivide.ErrOverhang)
+		r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
+			subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
 	}
 	r.sv.Section.Points = append(pts, subdivide.Point{Station: x, Elevation: z})
 	r.ns = append(r.ns, n)
 	r.sv.Rows = append(r.sv.Rows, rec.Row)
 	mark := strings.TrimSpace(r.t.Cell(rec, r.cm))
-	if strings.EqualFold(mark, MarkBank) {
+	if _, bank := readBankMark(mark); bank {
 		r.bankAt = append(r.bankAt, len(pts))
 		r.bankRows = append(r.bankRows, rec)
 		mark = ""
+	} else if bankLike(mark) {
+		r.bankLike = append(r.bankLike, rec)
 	}
 	r.sv.Labels = append(r.sv.Labels, mark)
 	r.sv.Notes = append(r.sv.Notes, r.t.Cell(rec, r.cnote))
@@ -320,7 +373,8 @@ func (r *sectionReader) roughness() error {
 	return nil
 }
 
-// banks sets the bank stations from the two points marked bank.
+// banks sets the bank stations from the two points with a bank mark (one
+// of BankWords), which must name their own sides when they name one.
 func (r *sectionReader) banks() error {
 	if r.cm < 0 || len(r.bankAt) == 0 {
 		return nil
@@ -334,7 +388,17 @@ func (r *sectionReader) banks() error {
 	if !(sec.LeftBank < sec.RightBank) {
 		return t.At(r.bankRows[1], r.cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
 	}
-	return nil
+	a, b := r.bankRows[0], r.bankRows[1]
+	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
+}
+
+// bankLikeWarnings warns, at its cell, of each mark that looks like a
+// bank's (see bankLike) but is not read as a bank mark.
+func (r *sectionReader) bankLikeWarnings() {
+	for _, rec := range r.bankLike {
+		r.sv.Warnings = append(r.sv.Warnings, r.t.At(rec, r.cm, fmt.Errorf(
+			"not read as a bank mark (the bank marks are %s): write one of them if the point bounds the main channel", strings.Join(BankWords(), ", "))).Error())
+	}
 }
 
 // gaps warns of a gap between stations over MaxGapFraction of the width,

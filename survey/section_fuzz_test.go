@@ -46,6 +46,15 @@ func FuzzParseSection(f *testing.F) {
 		"easting,northing,elevation\n1,1,5\n1,1,0\n1,1,5\n",
 		"x,y,z,n\n0,0,3,0.03\n5,0,0,\n2,0.1,0,\n9,0,3,\n",
 		"easting,northing,elevation,n,mark\n0,0,1,0.03,left pin\n1,0,0,,left pin\n2,0,1,,right pin\n",
+		// Bank words (sides right and wrong, marks like a bank's), n with
+		// a length unit, elev, site key rows, '#'-numbered lines and a
+		// quoted note holding a line that starts with '#'.
+		"station,elevation,n,mark\n0,5,0.04,\n1,3,,LB\n2,0,,bankfull\n3,3,,Right Top of Bank\n4,5,,\n",
+		"station,elevation,n,mark\n0,5,0.04,rb\n1,0,,\n2,5,,l.b.\n",
+		"E (ft),N (ft),elevation (ft),n,mark\n0,0,5,0.04,left pin\n3,4,1,,\n6,8,5,,right pin\n",
+		"station,elev.,elevation\n0,1,1\n1,0,0\n",
+		"site,Kowhai Stream at the ford\nsurveyed,2026-11-20\nstation,elev\n0,1\n1,0\n2,1\n",
+		"station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle\"\n#2,0,x\n4,3,\n",
 	} {
 		f.Add([]byte(s), false)
 	}

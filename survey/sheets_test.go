@@ -214,7 +214,7 @@ func TestHiddenSheetRatingAndShifts(t *testing.T) {
 		t.Fatal(err)
 	}
 	hidden := func(ws []string, sheet string) bool {
-		return len(ws) == 1 && ws[0] == HiddenSheetWarning(path, sheet)
+		return len(ws) == 1 && ws[0] == hiddenSheetWarning(path, sheet)
 	}
 	br, err := ReadBoundaryRating(path, "")
 	if err != nil || br.Sheet != "rating" || !hidden(br.Warnings, "rating") {

@@ -123,7 +123,7 @@ var workbookOptions = excelize.Options{RawCellValue: true, UnzipSizeLimit: MaxWo
 // openWorkbook opens a workbook file for reading. Every reader of a
 // workbook file opens it here, so the file is always a regular file
 // within the limits and its zip directory is checked first; each sheet is
-// checked as CheckWorkbookZip checks it when a reader chooses it
+// checked as checkWorkbookZip checks it when a reader chooses it
 // (chooseSheet).
 func openWorkbook(path string) (*inputBook, error) {
 	data, err := readInput(path)
@@ -292,7 +292,9 @@ func (b *tableBuilder) header(rec []string, row int) error {
 // duplicateColumn returns a ParseError (ErrDuplicateColumn) at the second
 // cell of header h (at the given row of file and sheet) whose name, as
 // columns are matched (see Table.Column), repeats an earlier one; blank
-// names are ignored. It returns nil when every name is distinct.
+// names are ignored. It returns nil when every name is distinct. When one
+// of the two is n with a length unit ("N (ft)" beside "n"), the error is
+// ErrNWithLength at that one (see nWithLength).
 func duplicateColumn(file, sheet string, h []string, row int) error {
 	seen := map[string]int{}
 	for i, name := range h {
@@ -301,6 +303,12 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 			continue
 		}
 		if j, dup := seen[key]; dup {
+			if err := nWithLength(file, sheet, h, row, j); err != nil {
+				return err
+			}
+			if err := nWithLength(file, sheet, h, row, i); err != nil {
+				return err
+			}
 			return &ParseError{File: file, Sheet: sheet, Row: row, Column: i + 1, Name: strings.TrimSpace(name),
 				Err: fmt.Errorf("%w (also column %d)", ErrDuplicateColumn, j+1)}
 		}
@@ -522,9 +530,9 @@ func sheetVisible(f *excelize.File, sheet string) bool {
 	return err != nil || visible
 }
 
-// HiddenSheetWarning is the warning given when a hidden sheet is read
+// hiddenSheetWarning is the warning given when a hidden sheet is read
 // because it was named.
-func HiddenSheetWarning(path, sheet string) string {
+func hiddenSheetWarning(path, sheet string) string {
 	return fmt.Sprintf("%s['%s']: the sheet is hidden in the workbook: check it is the one meant", path, sheet)
 }
 
@@ -535,14 +543,19 @@ func HiddenSheetWarning(path, sheet string) string {
 // workbook sheet chooses it here. Errors: no such sheet, no sheets,
 // ErrNoVisibleSheet, or ErrFormulaNoValue at the first cell of the sheet
 // chosen that holds a formula with no saved value, and the errors of the
-// sheet's scan (ErrRowOrder, ErrWorkbookZip).
+// sheet's scan (ErrRowOrder at the row that does not rise,
+// ErrWorkbookZip).
 func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	sheet, warnings, err := pickSheet(f.File, path, sheet)
 	if err != nil {
 		return sheet, warnings, err
 	}
 	if _, err := f.scans.scan(sheet); err != nil {
-		return sheet, warnings, &ParseError{File: path, Sheet: sheet, Err: err}
+		pe := &ParseError{File: path, Sheet: sheet, Err: err}
+		if re := (*rowOrderError)(nil); errors.As(err, &re) {
+			pe.Row = re.row
+		}
+		return sheet, warnings, pe
 	}
 	return sheet, warnings, f.unsavedError(path, sheet)
 }
@@ -563,7 +576,7 @@ func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 			}
 		}
 		if !sheetVisible(f, sheet) {
-			return sheet, []string{HiddenSheetWarning(path, sheet)}, nil
+			return sheet, []string{hiddenSheetWarning(path, sheet)}, nil
 		}
 		return sheet, nil, nil
 	}
@@ -982,7 +995,7 @@ func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
 		}
 		t := &Table{Header: trimAll(rec)}
 		coords := hasCoordinates(t)
-		return (t.Column(ColStation) >= 0 || coords) && t.Column(ColElevation, "z") >= 0, nil
+		return (t.Column(ColStation) >= 0 || coords) && t.Column(elevationNames()...) >= 0, nil
 	}
 	return false, rows.Error()
 }

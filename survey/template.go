@@ -62,8 +62,9 @@ const SectionHeaderRow = 6
 func SectionSheetName(i int) string { return fmt.Sprintf("XS-%d", i) }
 
 // SuggestedMarks returns the labels offered in the mark column's
-// drop-down list of a cross-section sheet. Only MarkBank means anything
-// to the reader; any other label may be typed and is kept with the point.
+// drop-down list of a cross-section sheet. Only a bank mark (MarkBank, or
+// another of BankWords) means anything to the reader; any other label may
+// be typed and is kept with the point.
 func SuggestedMarks() []string {
 	return []string{MarkBank, "thalweg", "water edge", "pin", "high-water mark"}
 }
@@ -283,7 +284,7 @@ func sectionColumns(u rating.Units) []workbook.InputColumn {
 		elevationColumn(L, "ground elevation on the survey's datum (named in the site block)"),
 		{Column: workbook.Column{Name: ColN, Format: "0.000#", Width: 9}, Rule: decimalRule(templateNMin, templateNMax, false,
 			fmt.Sprintf("Manning's n is usually between %g and %g: keep this value?", templateNMin, templateNMax)), Help: "Manning's n from this point to the next; blank repeats the value above"},
-		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks(), false, ""), Help: "bank marks a main-channel limit (exactly two per section); any other label is kept"},
+		{Column: workbook.Column{Name: ColMark, Format: workbook.FormatText, Width: 16}, Rule: listRule(SuggestedMarks(), false, ""), Help: "bank, or another bank word of the instructions sheet, marks a main-channel limit (exactly two per section); any other label is kept"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
 }
@@ -394,7 +395,8 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 		{strings.Join(names, ", "), "One sheet per cross-section, points from the left end to the right end looking downstream. " +
 			"station: distance from the left pin; it never decreases (no overhangs). elevation: ground elevation. " +
 			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
-			"mark: 'bank' on exactly the two points that bound the main channel; other labels (thalweg, pin, water edge, ...) are kept as labels. " +
+			"mark: 'bank' on exactly the two points that bound the main channel, or another bank word (" + strings.Join(BankWords()[1:], ", ") +
+			"; in any case; a word naming a side must be on that side); other labels (thalweg, pin, water edge, ...) are kept as labels. " +
 			"Add sheets by copying one; the sheet name is the section's name."},
 		{FieldSheetCoordinates, "A cross-section surveyed by total station or GNSS: easting, northing and elevation of each point, in the order surveyed. " +
 			"wetline projects the points onto the section line to make stations. mark: '" + MarkLeftPin + "' and '" + MarkRightPin + "' on the end pins " +

@@ -945,3 +945,42 @@ func TestTemplateExcludeKeepWords(t *testing.T) {
 		}
 	}
 }
+
+// The template's instructions name every word the reader takes as a bank
+// mark, and a cross-section sheet marked with two of them, typed in
+// another case, is read with its banks there.
+func TestTemplateBankWords(t *testing.T) {
+	path := writeTemplate(t, survey.TemplateOptions{Rows: 10})
+	f, err := excelize.OpenFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fillSheet(t, f, survey.SectionSheetName(1), survey.SectionHeaderRow+1, [][]any{
+		{0, 5, 0.05, nil}, {4, 3, nil, "Left Top of Bank"}, {8, 0, 0.03, nil}, {12, 3, 0.05, "RB"}, {16, 5, nil, nil}})
+	instr, err := f.GetRows(survey.FieldSheetInstructions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Save(); err != nil {
+		t.Fatal(err)
+	}
+	f.Close()
+	var text string
+	for _, r := range instr {
+		if len(r) > 1 && strings.HasPrefix(r[0], survey.SectionSheetName(1)) {
+			text = r[1]
+		}
+	}
+	for _, w := range survey.BankWords() {
+		if !strings.Contains(text, w) {
+			t.Errorf("instructions of the cross-section sheets do not name %q: %q", w, text)
+		}
+	}
+	sv, err := survey.ReadSection(path, survey.SectionSheetName(1), survey.SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s := sv.Section; !s.HasBanks || s.LeftBank != 4 || s.RightBank != 12 {
+		t.Errorf("banks %v at %g, %g; want 4 and 12", s.HasBanks, s.LeftBank, s.RightBank)
+	}
+}

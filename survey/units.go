@@ -34,6 +34,20 @@ var unitWords = map[string]rating.Units{
 	"ft/s": rating.US, "ft/ft": rating.US, "lb/ft2": rating.US,
 }
 
+// isLengthUnit reports a unit of headerUnit's that is a length (m, ft,
+// and their spellings in unitWords).
+func isLengthUnit(text string) bool {
+	u, ok := unitWords[text]
+	if !ok {
+		return false
+	}
+	switch text {
+	case u.Length(), "metre", "metres", "meter", "meters", "feet", "foot", "ft.":
+		return true
+	}
+	return false
+}
+
 // headerUnit returns the unit written in brackets after a column name
 // ("stage (m)", "discharge [cfs]"), lower case without spaces; "" when
 // none is written.
