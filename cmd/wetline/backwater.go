@@ -331,6 +331,6 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	rep.Name = survey.Position(path, sheet)
 	rep.BoundarySource = bfile
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: rt.Site}
-	rep.Warnings = append(append(append([]string(nil), rt.Warnings...), warnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(rt.Warnings, warnings, rep.Warnings)
 	return rep, nil
 }

@@ -10,6 +10,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"wetline/plotting"
@@ -230,7 +231,7 @@ func (d *demo) rateSurvey(path, sheet string, lookup bool) (rating.RatingReport,
 	}
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
 	rep.Ground = p.Ground
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	return rep, nil
 }
 
@@ -338,7 +339,7 @@ func (d *demo) culvert() error {
 	}
 	rep.Section = p.Source()
 	rep.Provenance = rating.Provenance{Program: program()}
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	return d.put("mill-lane-culvert-solve.txt", "normal and critical depth in the 1.2 m road culvert",
 		func(w io.Writer) error { return results.WriteSolveText(w, rep) })
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"slices"
 
 	"wetline/rating"
 	"wetline/survey"
@@ -57,7 +58,7 @@ func (d *demo) coordinates() error {
 	}
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
 	rep.Ground = p.Ground
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	if err := drawRating(&rep, demoCoordSurvey, rep.Provenance.Site.Name); err != nil {
 		return err
 	}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"slices"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -46,7 +47,7 @@ func (d *demo) fit() error {
 		if err != nil {
 			return nil, err
 		}
-		rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+		rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 		rep.Provenance = rating.Provenance{Program: program(), Inputs: []string{demoGaugings, demoSurvey}}
 		return rep, nil
 	}

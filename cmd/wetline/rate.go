@@ -198,7 +198,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
 	rep.Ground = p.Ground
 	rep.Calibration = cal
-	rep.Warnings = append(append(append([]string(nil), p.Warnings...), stageWarnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(p.Warnings, stageWarnings, rep.Warnings)
 	return rep, nil
 }
 

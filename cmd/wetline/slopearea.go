@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"slices"
 	"strings"
 
 	"wetline/plotting"
@@ -197,6 +198,6 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	}
 	rep.Name = survey.Position(path, sheet)
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: rt.Inputs(), Site: rt.Site}
-	rep.Warnings = append(append(append([]string(nil), rt.Warnings...), rep.Warnings...), rt.SlopeAreaWarnings()...)
+	rep.Warnings = slices.Concat(rt.Warnings, rep.Warnings, rt.SlopeAreaWarnings())
 	return rep, nil
 }

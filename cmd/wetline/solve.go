@@ -4,6 +4,7 @@ import (
 	"context"
 	"io"
 	"math"
+	"slices"
 
 	"wetline/rating"
 	"wetline/survey"
@@ -85,7 +86,7 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 	}
 	rep.Section = p.Source()
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
-	rep.Warnings = append(append([]string(nil), p.Warnings...), rep.Warnings...)
+	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	write := results.WriteSolveText
 	if f.format == "json" {
 		write = results.WriteSolveJSON

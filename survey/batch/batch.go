@@ -22,6 +22,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strings"
 	"sync"
 
@@ -314,7 +315,7 @@ func Rate(j Job, opt Options) Result {
 		return fail(err)
 	}
 	t.Name = j.Name
-	en.Rows, en.Warnings = len(t.Rows), append(append(append([]string(nil), p.Warnings...), stageWarnings...), t.Warnings...)
+	en.Rows, en.Warnings = len(t.Rows), slices.Concat(p.Warnings, stageWarnings, t.Warnings)
 	en.StageMin, en.StageMax, _ = t.StageRange()
 	if hb, ok := p.Ground.Section.Bankfull(); ok {
 		en.BankfullStage = hb
