@@ -83,21 +83,11 @@ const (
 // cell is reported, each naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
-	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
+	cs, cq, units, err := ratingColumns(t, choice)
 	if err != nil {
 		return out, err
 	}
-	cq, err := t.Require("discharge")
-	if err != nil {
-		return out, err
-	}
-	note, err := t.HeaderUnits(cs, cq, t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
-	if err != nil {
-		return out, err
-	}
-	if out.Units, err = note.Resolve(choice.Units, choice.Given); err != nil {
-		return out, err
-	}
+	out.Units = units
 	cv := t.Column(ColRatingValidFrom)
 	vf := validFromReader{t: t, col: cv}
 	periods := 0 // the rating periods of the times read, grouped as RatingTablesFromTable groups them
@@ -117,15 +107,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 				periods, lastFrom = periods+1, from
 			}
 		}
-		opt := func(name string) float64 { return cells.optional(rec, name) }
-		r := rating.Row{
-			Stage: cells.needed(rec, cs, "stage", MaxElevation), Discharge: cells.needed(rec, cq, "discharge", rating.MaxDischarge),
-			Depth: opt("depth"), Area: opt("area"), WettedPerimeter: opt("wetted_perimeter"),
-			TopWidth: opt("top_width"), HydraulicRadius: opt("hydraulic_radius"),
-			Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
-			Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
-			Beta: opt("beta"), ShearStress: opt("shear_stress"),
-		}
+		r := cells.ratingRow(rec, cs, cq)
 		if !math.IsNaN(r.Stage) {
 			prev := last
 			last = r.Stage
@@ -157,6 +139,47 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if err := cells.errs.err(); err != nil {
 		return out, err
 	}
+	return finishRatingTable(t, out, rows, bottomFromDepth)
+}
+
+// ratingColumns finds a rating table's stage and discharge columns and
+// its unit system: the units its headers name (stage, discharge and the
+// geometry columns), which must agree with choice.
+func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units, err error) {
+	if cs, err = t.Require(ColRatingStage, ColGaugeHeight); err != nil {
+		return
+	}
+	if cq, err = t.Require("discharge"); err != nil {
+		return
+	}
+	note, err := t.HeaderUnits(cs, cq, t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+	if err != nil {
+		return
+	}
+	units, err = note.Resolve(choice.Units, choice.Given)
+	return
+}
+
+// ratingRow reads one row of a rating table: stage and discharge, each
+// NaN when blank or bad (the error kept in c), and the hydraulics of the
+// columns given (NaN when absent).
+func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
+	opt := func(name string) float64 { return c.optional(rec, name) }
+	return rating.Row{
+		Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge),
+		Depth: opt("depth"), Area: opt("area"), WettedPerimeter: opt("wetted_perimeter"),
+		TopWidth: opt("top_width"), HydraulicRadius: opt("hydraulic_radius"),
+		Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
+		Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
+		Beta: opt("beta"), ShearStress: opt("shear_stress"),
+	}
+}
+
+// finishRatingTable completes a rating table read without error: its
+// rows (ErrEmpty when none), uniform slope, kind, and the warnings of a
+// table with no depth column and of a discharge that falls (rows gives
+// each row's place in the file).
+func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth bool) (rating.Table, error) {
 	if len(out.Rows) == 0 {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: ErrEmpty}
 	}
@@ -164,7 +187,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0 {
 		out.Kind = KindFitted
 	}
-	if !bottomFromDepth && len(out.Rows) > 0 {
+	if !bottomFromDepth {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",
 			where(t, t.HeaderRow)))
 	}
