@@ -140,34 +140,9 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	if len(hf.ratings) == 0 {
 		return h, nil, nil, usagef("%s: give the rating with --rating FILE (and --rating FILE@TIME for each later rating period)", hf.cmd)
 	}
-	specs := make([]ratingSpec, len(hf.ratings))
-	files := 0
-	for k, s := range hf.ratings {
-		if specs[k], err = hf.parseRatingSpec(s); err != nil {
-			return h, nil, nil, err
-		}
-		if !specs[k].none {
-			files++
-		}
-	}
-	// A list of values gives one per --rating, or one per --rating with a
-	// file, skipping the periods without a rating (none@TIME).
-	skipNone := map[string]bool{}
-	for _, l := range []struct {
-		name string
-		v    numbers
-	}{{"zero-flow", hf.zeroFlow}, {"highest-gauging", hf.highest}} {
-		n := len(l.v)
-		switch {
-		case n <= 1 || n == len(hf.ratings):
-		case n == files:
-			skipNone[l.name] = true
-		case files < len(hf.ratings):
-			return h, nil, nil, usagef("%s: --%s gives %d values for %d --rating (%d with a file): give one for all, one per --rating, or one per --rating with a file",
-				hf.cmd, l.name, n, len(hf.ratings), files)
-		default:
-			return h, nil, nil, usagef("%s: --%s gives %d values for %d --rating: give one for all, or one per --rating", hf.cmd, l.name, n, len(hf.ratings))
-		}
+	specs, skipNone, err := hf.ratingSpecs()
+	if err != nil {
+		return h, nil, nil, err
 	}
 	var inputs, warnings []string
 	var periods []datedPeriod
@@ -210,6 +185,43 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 	hf.decided, hf.unitSystem = d, d.Units
 	h.UTCOffset = time.Duration(hf.offset)
 	return h, inputs, warnings, nil
+}
+
+// ratingSpecs parses every --rating and checks the lists of --zero-flow
+// and --highest-gauging against them: one value for all, one per
+// --rating, or one per --rating with a file (skipNone names the flags
+// read that way, skipping the periods without a rating, none@TIME).
+// Mistakes are usage errors.
+func (hf *historyFlags) ratingSpecs() ([]ratingSpec, map[string]bool, error) {
+	specs := make([]ratingSpec, len(hf.ratings))
+	files := 0
+	for k, s := range hf.ratings {
+		var err error
+		if specs[k], err = hf.parseRatingSpec(s); err != nil {
+			return nil, nil, err
+		}
+		if !specs[k].none {
+			files++
+		}
+	}
+	skipNone := map[string]bool{}
+	for _, l := range []struct {
+		name string
+		v    numbers
+	}{{"zero-flow", hf.zeroFlow}, {"highest-gauging", hf.highest}} {
+		n := len(l.v)
+		switch {
+		case n <= 1 || n == len(hf.ratings):
+		case n == files:
+			skipNone[l.name] = true
+		case files < len(hf.ratings):
+			return nil, nil, usagef("%s: --%s gives %d values for %d --rating (%d with a file): give one for all, one per --rating, or one per --rating with a file",
+				hf.cmd, l.name, n, len(hf.ratings), files)
+		default:
+			return nil, nil, usagef("%s: --%s gives %d values for %d --rating: give one for all, or one per --rating", hf.cmd, l.name, n, len(hf.ratings))
+		}
+	}
+	return specs, skipNone, nil
 }
 
 // ratingPeriods reads a --rating: the periods it holds (one without a
