@@ -200,3 +200,59 @@ func (c *compositeGeometry) At(stage float64, opt subdivide.Options) (subdivide.
 	w.Subs = merged
 	return w, nil
 }
+
+// minAlternatingStrips is the number of channel subsections from which a
+// split whose n goes back and forth is warned of (see
+// AlternatingChannelWarning): three strips may be a bar beside a thread,
+// four alternating ones are most likely n written point by point.
+const minAlternatingStrips = 4
+
+// AlternatingChannelWarning warns of a main channel that Split cuts into
+// minAlternatingStrips or more subsections with width whose n goes back
+// and forth (it turns from rising to falling, or back, at least twice), or
+// returns "". Each strip is rated on its own hydraulic radius, so a
+// channel split into narrow strips carries more than one channel of the
+// same roughness. Chow (1959, section 6-4) subdivides a section into its
+// channel and overbanks; that n written point by point along one bed is
+// what a composite roughness (section 6-7) is for is this project's
+// reading.
+//
+// References:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, sections
+//	6-4 and 6-7.
+func AlternatingChannelWarning(subs []subdivide.Subsection) string {
+	var ns []float64
+	for _, s := range subs {
+		if s.Region == subdivide.Channel && s.To > s.From {
+			ns = append(ns, s.N)
+		}
+	}
+	if len(ns) < minAlternatingStrips {
+		return ""
+	}
+	turns, dir := 0, 0
+	lo, hi := ns[0], ns[0]
+	for i := 1; i < len(ns); i++ {
+		lo, hi = math.Min(lo, ns[i]), math.Max(hi, ns[i])
+		d := 0
+		switch {
+		case ns[i] > ns[i-1]:
+			d = 1
+		case ns[i] < ns[i-1]:
+			d = -1
+		}
+		if d != 0 && dir != 0 && d != dir {
+			turns++
+		}
+		if d != 0 {
+			dir = d
+		}
+	}
+	if turns < 2 {
+		return ""
+	}
+	return fmt.Sprintf("the main channel is split into %d subsections whose n goes back and forth (%g to %g): each is rated as a strip of its own, "+
+		"which carries more than one channel of that roughness; where these n describe one channel's bed, give it one n or use a composite roughness (Horton, Pavlovskii or Lotter)",
+		len(ns), lo, hi)
+}

@@ -2,6 +2,7 @@ package rating
 
 import (
 	"math"
+	"strings"
 	"testing"
 
 	"wetline/subdivide"
@@ -151,6 +152,39 @@ func TestCompositeWalls(t *testing.T) {
 				t.Errorf("walls n %g, %v: K %g, not below %g of smoother walls", nw, tt.c, r.Conveyance, k)
 			}
 			last[tt.c] = r.Conveyance
+		}
+	}
+}
+
+// A main channel that the split cuts into four or more strips whose n goes
+// back and forth (turning at least twice) is warned of; a pool beside a
+// bar (three strips, one turn), a channel whose n only rises, overbanks
+// and walls are not. The n values are invented patterns.
+func TestAlternatingChannelWarning(t *testing.T) {
+	strips := func(r subdivide.Region, ns ...float64) []subdivide.Subsection {
+		var out []subdivide.Subsection
+		for i, n := range ns {
+			out = append(out, subdivide.Subsection{From: float64(i), To: float64(i + 1), N: n, Region: r})
+		}
+		return out
+	}
+	wall := subdivide.Subsection{From: 2, To: 2, N: 0.1, Region: subdivide.Channel, Wall: 1}
+	for _, tc := range []struct {
+		name string
+		subs []subdivide.Subsection
+		want string // "" for no warning
+	}{
+		{"n point by point", strips(subdivide.Channel, 0.038, 0.042, 0.038, 0.042, 0.038, 0.042), "split into 6 subsections whose n goes back and forth (0.038 to 0.042)"},
+		{"two turns in four", strips(subdivide.Channel, 0.03, 0.04, 0.03, 0.04), "split into 4 subsections"},
+		{"pool between bars", strips(subdivide.Channel, 0.035, 0.033, 0.035), ""},
+		{"rising only", strips(subdivide.Channel, 0.03, 0.035, 0.04, 0.045), ""},
+		{"one turn in five", strips(subdivide.Channel, 0.03, 0.035, 0.04, 0.035, 0.03), ""},
+		{"overbank alternating", strips(subdivide.LeftOverbank, 0.05, 0.06, 0.05, 0.06), ""},
+		{"walls are no strips", append(strips(subdivide.Channel, 0.03, 0.04, 0.03), wall), ""},
+	} {
+		got := AlternatingChannelWarning(tc.subs)
+		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
 	}
 }

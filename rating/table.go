@@ -224,6 +224,9 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
+	if w := AlternatingChannelWarning(t.Subsections); w != "" && opt.Composite == Split {
+		t.Warnings = append(t.Warnings, w)
+	}
 	return t, nil
 }
 
