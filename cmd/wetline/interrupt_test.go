@@ -13,6 +13,8 @@ import (
 	"syscall"
 	"testing"
 	"time"
+
+	"wetline/survey/batch"
 )
 
 // helperEnv makes the test binary act as the wetline program (see
@@ -40,7 +42,7 @@ func testCommands() map[string]command {
 	}}
 	// stall-folder DIR: stages a batch folder with one table, then waits.
 	cmds["stall-folder"] = command{"stage part of a batch folder, then wait", func(ctx context.Context, e *env, args []string) error {
-		d, err := e.files.Folder(args[0], "index.csv")
+		d, err := e.files.Folder(args[0], "index.csv", batch.IndexedFiles)
 		if err != nil {
 			return err
 		}
