@@ -66,6 +66,10 @@ type env struct {
 	progressDelay, progressEvery time.Duration
 	// figures are the figure files the run has written.
 	figures runFigures
+	// stdin is what standard input reads from (nil when unknown): the
+	// file, when it is redirected from one, is protected once a command
+	// reads standard input.
+	stdin os.FileInfo
 }
 
 // newEnv returns an environment writing to stdout and stderr.
@@ -114,6 +118,7 @@ func mainWith(cmds map[string]command) int {
 	st, _ := os.Stderr.Stat()
 	e := newEnv(os.Stdout, os.Stderr, cmds)
 	e.stderrTTY = st != nil && st.Mode()&os.ModeCharDevice != 0
+	e.stdin, _ = os.Stdin.Stat()
 	scratch, err := privateTemp()
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "wetline: "+err.Error())
