@@ -17,6 +17,7 @@ import (
 // when all are written.
 type delivery struct {
 	output string   // report file; "" or "-" for standard output
+	fresh  bool     // the report file must be new: an existing file is refused
 	inputs []string // files read, never written over
 	write  func(io.Writer) error
 	// inline reports that the report carries its warnings and the caution
@@ -42,6 +43,7 @@ func (e *env) deliver(d delivery) error {
 	f.Protect(d.inputs...)
 	var figPaths []string
 	if d.plots != "" {
+		f.MayCreate(d.plots) // the figures' folder is made if missing
 		d.figs = e.figures.place(d.plots, d.figs)
 		for _, fig := range d.figs {
 			figPaths = append(figPaths, filepath.Join(d.plots, fig.Name))
@@ -56,7 +58,11 @@ func (e *env) deliver(d delivery) error {
 					d.output, d.plots, output.ErrTwice)
 			}
 		}
-		if err := f.Check(d.output); err != nil {
+		check := f.Check
+		if d.fresh {
+			check = f.CheckNew
+		}
+		if err := check(d.output); err != nil {
 			return err
 		}
 	}
@@ -66,7 +72,11 @@ func (e *env) deliver(d delivery) error {
 		}
 	}
 	if !d.toStdout() {
-		if err := f.Write(d.output, d.write); err != nil {
+		write := f.Write
+		if d.fresh {
+			write = f.WriteNew
+		}
+		if err := write(d.output, d.write); err != nil {
 			return err
 		}
 	}

@@ -97,6 +97,7 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 	if err := demoFolder(*out); err != nil {
 		return err
 	}
+	e.files.MayCreate(*out) // with the demo's sub-folders
 	var b strings.Builder
 	fmt.Fprintf(&b, "wetline demo: invented sites and data, written to %s\n", *out)
 	d := &demo{e: e, dir: *out}

@@ -75,7 +75,15 @@ func (fs *flagSet) parse(e *env, args []string) error {
 	if err := fs.oneStdin(); err != nil {
 		return err
 	}
+	if fs.readsStdin() {
+		e.files.ProtectStdin(e.stdin)
+	}
 	return fs.distinctOutputs()
+}
+
+// readsStdin reports whether an input is standard input (-).
+func (fs *flagSet) readsStdin() bool {
+	return len(fs.stdinPlaces()) > 0
 }
 
 // repeatable reports a flag that may be given more than once: a list
@@ -108,6 +116,16 @@ func (fs *flagSet) inputAfter(prefix string, names ...string) {
 // that is never "-") and the input flags (marked with input): it can be
 // read only once.
 func (fs *flagSet) oneStdin() error {
+	places := fs.stdinPlaces()
+	if len(places) > 1 {
+		return usagef("%s: standard input (-) is named twice, as %s and as %s: it can be read only once; save one of the inputs to a file",
+			fs.Name(), places[0], places[1])
+	}
+	return nil
+}
+
+// stdinPlaces lists where standard input (-) is named as an input.
+func (fs *flagSet) stdinPlaces() []string {
 	var places []string
 	for i, a := range fs.Args() {
 		if a == "-" {
@@ -135,11 +153,7 @@ func (fs *flagSet) oneStdin() error {
 			}
 		}
 	})
-	if len(places) > 1 {
-		return usagef("%s: standard input (-) is named twice, as %s and as %s: it can be read only once; save one of the inputs to a file",
-			fs.Name(), places[0], places[1])
-	}
-	return nil
+	return places
 }
 
 // Kinds of path an output flag names (see output).
@@ -178,13 +192,15 @@ func flagWords(f *pflag.Flag) string {
 // distinctOutputs refuses, as a usage error naming both flags, two output
 // flags (marked with output) given paths that name the same file or
 // folder, after cleaning and through symbolic links (output.SamePath), or
-// a path inside another flag's path that is written as a file. Standard
-// output (-) and flags not given are passed over.
+// a path inside another flag's path that is written as a file, and an
+// output flag given an empty path. Standard output (-) and flags not
+// given are passed over.
 func (fs *flagSet) distinctOutputs() error {
 	type dest struct {
 		flag, path, kind string
 	}
 	var outs []dest
+	var empty, emptyKind string
 	fs.VisitAll(func(f *pflag.Flag) {
 		kind := f.Annotations[outputKey]
 		if len(kind) == 0 || !f.Changed {
@@ -192,8 +208,17 @@ func (fs *flagSet) distinctOutputs() error {
 		}
 		if p := f.Value.String(); p != "" && p != "-" {
 			outs = append(outs, dest{flagWords(f), p, kind[0]})
+		} else if p == "" && empty == "" {
+			empty, emptyKind = flagWords(f), kind[0]
 		}
 	})
+	if empty != "" {
+		what := "a file, or - for standard output"
+		if emptyKind == outputFolder {
+			what = "a folder"
+		}
+		return usagef("%s: %s is given an empty path: name %s", fs.Name(), empty, what)
+	}
 	for i, a := range outs {
 		for _, b := range outs[i+1:] {
 			if output.SamePath(a.path, b.path) {

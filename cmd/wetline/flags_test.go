@@ -230,3 +230,24 @@ func TestPlainMessages(t *testing.T) {
 		}
 	}
 }
+
+// An output flag given an empty path is a mistake on the command line
+// (exit 2), not standard output nor the current folder.
+func TestEmptyOutputPath(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"rate", demoSurveyPath, "--slope", "0.001", "-o", ""}, "rate: -o is given an empty path: name a file, or - for standard output"},
+		{[]string{"rate", demoSurveyPath, "--slope", "0.001", "--plots", ""}, "rate: --plots is given an empty path: name a folder"},
+		{[]string{"plot", "testdata/tallow-xs1-rating.csv", "-o", ""}, "plot: -o is given an empty path: name a folder"},
+		{[]string{"shape", "rectangle:width=2", "-o", ""}, "shape: -o is given an empty path"},
+		{[]string{"solve", "--shape", "rectangle:width=2", "--n", "0.015", "--discharge", "1", "--slope", "0.001", "-o", ""}, "solve: -o is given an empty path"},
+	} {
+		_, errs, code := runCLI(t, c.args...)
+		if code != 2 || !strings.Contains(errs, c.want) {
+			t.Errorf("%q: exit %d, want 2 and %q:\n%s", c.args, code, c.want, errs)
+		}
+	}
+}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"errors"
 	"fmt"
@@ -13,6 +14,9 @@ import (
 	"syscall"
 	"testing"
 	"time"
+
+	"wetline/survey/batch"
+	"wetline/survey/output"
 )
 
 // helperEnv makes the test binary act as the wetline program (see
@@ -40,7 +44,7 @@ func testCommands() map[string]command {
 	}}
 	// stall-folder DIR: stages a batch folder with one table, then waits.
 	cmds["stall-folder"] = command{"stage part of a batch folder, then wait", func(ctx context.Context, e *env, args []string) error {
-		d, err := e.files.Folder(args[0], "index.csv")
+		d, err := e.files.Folder(args[0], "index.csv", batch.IndexedFiles)
 		if err != nil {
 			return err
 		}
@@ -233,7 +237,7 @@ func TestInterruptRemovesLibraryTemporaryFiles(t *testing.T) {
 	if _, err := os.Stat(tmp); err != nil {
 		t.Fatalf("temporary file %s: %v", tmp, err)
 	}
-	if !strings.Contains(filepath.Dir(tmp), "wetline-") {
+	if !strings.Contains(filepath.Dir(tmp), "wetline-scratch-") {
 		t.Errorf("temporary file %s is not in the run's own folder", tmp)
 	}
 	interrupt(t, cmd, stderr, syscall.SIGHUP)
@@ -267,5 +271,43 @@ func TestFullStandardOutput(t *testing.T) {
 		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(stderr.String(), "no space") {
 			t.Errorf("%v to a full device: %v, stderr %q", args, err, stderr.String())
 		}
+	}
+}
+
+// A broken pipe on standard output (a reader that stops early, as head
+// does) ends the run with 141 and a message, its scratch folder removed;
+// a scratch folder a killed run left behind over a day ago is removed by
+// the next run.
+func TestBrokenPipeAndStaleScratch(t *testing.T) {
+	t.Parallel()
+	tmp := t.TempDir()
+	stale := filepath.Join(tmp, fmt.Sprintf("%s%d-1", output.ScratchPrefix, 999999999))
+	if err := os.Mkdir(stale, 0o700); err != nil {
+		t.Fatal(err)
+	}
+	mustWrite(t, filepath.Join(stale, output.ScratchMark), "")
+	old := time.Now().Add(-48 * time.Hour)
+	if err := os.Chtimes(stale, old, old); err != nil {
+		t.Fatal(err)
+	}
+	cmd := exec.Command(os.Args[0], "rate", demoSurveyPath, "--slope", "0.001", "--step", "0.001")
+	cmd.Env = append(os.Environ(), helperEnv+"=1", "TMPDIR="+tmp)
+	var errb bytes.Buffer
+	cmd.Stderr = &errb
+	r, err := cmd.StdoutPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	r.Close() // the reader is gone before the table is written
+	err = cmd.Wait()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != 141 || !strings.Contains(errb.String(), "broken pipe") {
+		t.Errorf("broken pipe: %v, want exit 141 and a message:\n%s", err, errb.String())
+	}
+	if got := listing(t, tmp); got != "" {
+		t.Errorf("the temporary folder holds %q, want nothing (no scratch folder, the stale one removed)", got)
 	}
 }

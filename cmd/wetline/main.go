@@ -66,6 +66,10 @@ type env struct {
 	progressDelay, progressEvery time.Duration
 	// figures are the figure files the run has written.
 	figures runFigures
+	// stdin is what standard input reads from (nil when unknown): the
+	// file, when it is redirected from one, is protected once a command
+	// reads standard input.
+	stdin os.FileInfo
 }
 
 // newEnv returns an environment writing to stdout and stderr.
@@ -110,15 +114,25 @@ func interruptStatus(sig os.Signal) int {
 // mainWith runs the program with a command table and returns its exit
 // status. An interrupt (SIGINT, SIGTERM or SIGHUP) discards every output
 // file being written and every temporary file, then exits.
+//
+// A broken pipe on standard output (the reader went away, as head does)
+// ends the run as a failure: what was being written is discarded, the
+// scratch folder removed, a line says so, and the exit status is 141
+// (128 + SIGPIPE), as for the signal.
 func mainWith(cmds map[string]command) int {
 	st, _ := os.Stderr.Stat()
-	e := newEnv(os.Stdout, os.Stderr, cmds)
+	stdout := &pipeWatch{w: os.Stdout}
+	e := newEnv(stdout, os.Stderr, cmds)
 	e.stderrTTY = st != nil && st.Mode()&os.ModeCharDevice != 0
+	e.stdin, _ = os.Stdin.Stat()
 	scratch, err := privateTemp()
 	if err != nil {
 		fmt.Fprintln(os.Stderr, "wetline: "+err.Error())
 		return 1
 	}
+	// Asked for, SIGPIPE no longer kills the process: a write to a closed
+	// pipe fails with EPIPE, and the run ends through its clean-up.
+	signal.Notify(make(chan os.Signal, 1), syscall.SIGPIPE)
 	ctx, cancel := context.WithCancel(context.Background())
 	sigs := make(chan os.Signal, 1)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
@@ -132,17 +146,38 @@ func mainWith(cmds map[string]command) int {
 	}()
 	err = run(ctx, e, os.Args[1:])
 	os.RemoveAll(scratch)
+	if stdout.broken || errors.Is(err, syscall.EPIPE) {
+		e.files.Discard()
+		fmt.Fprintln(os.Stderr, "wetline: standard output was closed before the output was written whole (broken pipe)")
+		return interruptStatus(syscall.SIGPIPE)
+	}
 	return exitStatus(err, os.Stderr)
 }
 
-// privateTemp makes a temporary folder for this run and points the
-// process's temporary folder at it, so that the spreadsheet library's own
-// temporary files of a large workbook are removed with it, even on an
+// pipeWatch passes writes to standard output and notes a broken pipe.
+type pipeWatch struct {
+	w      io.Writer
+	broken bool
+}
+
+func (p *pipeWatch) Write(b []byte) (int, error) {
+	n, err := p.w.Write(b)
+	if errors.Is(err, syscall.EPIPE) {
+		p.broken = true
+	}
+	return n, err
+}
+
+// privateTemp removes the scratch folders that killed runs left behind
+// (output.CleanScratch), makes a scratch folder for this run and points
+// the process's temporary folder at it, so that the spreadsheet library's
+// own temporary files of a large workbook are removed with it, even on an
 // interrupt.
 func privateTemp() (string, error) {
-	dir, err := os.MkdirTemp("", "wetline-")
+	output.CleanScratch("", output.ScratchAge, time.Now())
+	dir, err := output.NewScratch("")
 	if err != nil {
-		return "", fmt.Errorf("cannot make a temporary folder: %w", err)
+		return "", err
 	}
 	return dir, os.Setenv("TMPDIR", dir)
 }

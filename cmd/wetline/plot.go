@@ -37,6 +37,7 @@ func (f *plotFlags) register(fs *flagSet) {
 	fs.IntVar(&f.height, "height", plotting.DefaultHeight, "figure height in pixels")
 	fs.IntVar(&f.dpi, "dpi", plotting.DefaultDPI, "figure resolution in dots per inch (text keeps its size in points)")
 	fs.StringVarP(&f.output, "output", "o", "", "folder for the PNG files (default: the table's folder)")
+	fs.output(outputFolder, "output")
 }
 
 // size checks the figure size flags.

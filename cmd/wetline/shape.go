@@ -22,6 +22,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	fs.Var(&n, "n", "Manning's n: one value, or LEFT,CHANNEL,RIGHT for a compound shape (omit for no n column)")
 	units := fs.String("units", "si", "unit system of the dimensions: si (m) or us (ft)")
 	out := fs.StringP("output", "o", "", "output file (.csv; default: standard output)")
+	fs.output(outputFile, "output")
 	site := fs.String("site", "", "the site's name, written as the survey's site key")
 	if err := fs.parse(e, args); err != nil {
 		return err

@@ -31,6 +31,7 @@ func (f *solveFlags) register(fs *flagSet) {
 	fs.notGiven("slope")
 	fs.StringVar(&f.format, "format", "", "output format: text or json (default: from the -o extension, else text)")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.output(outputFile, "output")
 }
 
 // check refuses a command line that asks for nothing, or for more than

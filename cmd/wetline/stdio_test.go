@@ -2,8 +2,10 @@ package main
 
 import (
 	"bytes"
+	"errors"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -88,5 +90,42 @@ func TestStdinNamedOnce(t *testing.T) {
 	}
 	if _, errs, code := runProgram(t, data, "rate", "-", "--slope", "0.001"); code != 0 {
 		t.Errorf("one - refused: exit %d:\n%s", code, errs)
+	}
+}
+
+// A survey read from standard input redirected from a file is an input:
+// -o naming that file (or a hard link to it) is refused, the file kept.
+func TestStdinFileNotOverwritten(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	data, err := os.ReadFile(demoSurveyPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	xs := filepath.Join(dir, "xs.csv")
+	mustWrite(t, xs, string(data))
+	hard := filepath.Join(dir, "hard.csv")
+	if err := os.Link(xs, hard); err != nil {
+		t.Skip(err)
+	}
+	for _, out := range []string{xs, hard} {
+		in, err := os.Open(xs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cmd := exec.Command(os.Args[0], "rate", "-", "--slope", "0.001", "-o", out)
+		cmd.Env = append(os.Environ(), helperEnv+"=1")
+		cmd.Stdin = in
+		var errb bytes.Buffer
+		cmd.Stderr = &errb
+		err = cmd.Run()
+		in.Close()
+		var ee *exec.ExitError
+		if !errors.As(err, &ee) || ee.ExitCode() != 1 || !strings.Contains(errb.String(), "standard input is read from") {
+			t.Errorf("rate - -o %s < xs.csv: %v, want exit 1 refusing:\n%s", filepath.Base(out), err, errb.String())
+		}
+	}
+	if b, _ := os.ReadFile(xs); !bytes.Equal(b, data) {
+		t.Errorf("the survey read from standard input was overwritten: %.60q", b)
 	}
 }

@@ -60,7 +60,8 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	if len(opt.Surveys) > survey.MaxTemplateSections {
 		return usagef("template: %d surveys: at most %d", len(opt.Surveys), survey.MaxTemplateSections)
 	}
-	return e.deliver(delivery{output: *out, inputs: *surveys,
+	// A workbook of that name may hold field data: never replaced.
+	return e.deliver(delivery{output: *out, inputs: *surveys, fresh: true,
 		write: func(w io.Writer) error { return survey.WriteTemplate(w, opt) },
 		summary: func(w io.Writer) error {
 			_, err := fmt.Fprintf(w, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s, %s and %s; units %s, %s\n",

@@ -14,7 +14,9 @@
 package batch
 
 import (
+	"bytes"
 	"context"
+	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
@@ -34,8 +36,41 @@ import (
 )
 
 // IndexFile is the name of the index table written into a batch folder;
-// it also marks a folder as an earlier batch output, safe to replace.
+// it also marks a folder as an earlier batch output, which may be
+// replaced when it holds nothing but the index and the tables the index
+// lists (IndexedFiles).
 const IndexFile = "index.csv"
+
+// ErrIndex: an index table has no output column.
+var ErrIndex = errors.New("not a batch index: it has no output column")
+
+// IndexedFiles returns the table files an index table (IndexFile, as
+// results.WriteIndexCSV writes it) lists in its output column.
+func IndexedFiles(index []byte) ([]string, error) {
+	rows, err := csv.NewReader(bytes.NewReader(index)).ReadAll()
+	if err != nil {
+		return nil, err
+	}
+	if len(rows) == 0 {
+		return nil, ErrIndex
+	}
+	col := -1
+	for i, name := range rows[0] {
+		if strings.TrimPrefix(name, "\ufeff") == "output" {
+			col = i
+		}
+	}
+	if col < 0 {
+		return nil, ErrIndex
+	}
+	var names []string
+	for _, r := range rows[1:] {
+		if col < len(r) && r[col] != "" {
+			names = append(names, r[col])
+		}
+	}
+	return names, nil
+}
 
 // Job is one survey of a batch: a CSV file or a workbook sheet.
 type Job struct {
@@ -439,7 +474,7 @@ func (s Summary) Err(where string) error {
 // otherwise, so a failed batch leaves an earlier folder as it was.
 func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
-	d, err := files.Folder(dir, IndexFile)
+	d, err := files.Folder(dir, IndexFile, IndexedFiles)
 	if err != nil {
 		return sum, err
 	}

@@ -442,6 +442,26 @@ func TestFolder(t *testing.T) {
 	}
 }
 
+// IndexedFiles reads the output column of an index, wherever it stands;
+// a table without one is not an index.
+func TestIndexedFiles(t *testing.T) {
+	for _, c := range []struct {
+		index, want string
+		err         error
+	}{
+		{"section,source,output,rows\nXS-1,a.csv,XS-1.csv,3\nXS-2,b.csv,,0\n", "[XS-1.csv]", nil},
+		{"output\na.json\nb.json\n", "[a.json b.json]", nil},
+		{"\ufeffoutput,section\na.csv,a\n", "[a.csv]", nil},
+		{"site,photo\nmill lane,1\n", "[]", batch.ErrIndex},
+		{"", "[]", batch.ErrIndex},
+	} {
+		got, err := batch.IndexedFiles([]byte(c.index))
+		if !errors.Is(err, c.err) || (err == nil && fmt.Sprint(got) != c.want) {
+			t.Errorf("IndexedFiles(%q) = %v, %v; want %s, %v", c.index, got, err, c.want, c.err)
+		}
+	}
+}
+
 // The folder swap: an earlier batch output (holding an index) is replaced
 // whole at Commit, a run discarded leaves it as it was, and a folder that
 // is not a batch output is refused before anything is rated.
@@ -453,7 +473,7 @@ func TestFolderSwap(t *testing.T) {
 	}
 	base := t.TempDir()
 	earlier := filepath.Join(base, "earlier")
-	writeFile(t, filepath.Join(earlier, batch.IndexFile), "section\nold\n")
+	writeFile(t, filepath.Join(earlier, batch.IndexFile), "section,source,output\nold,old.csv,old.csv\n")
 	writeFile(t, filepath.Join(earlier, "old.csv"), "stage,discharge\n")
 	foreign := filepath.Join(base, "foreign")
 	writeFile(t, filepath.Join(foreign, "notes.txt"), "keep me")

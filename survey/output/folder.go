@@ -14,9 +14,9 @@ import (
 
 // Causes of a refused output folder, for errors.Is.
 var (
-	// ErrForeignFolder: the output folder holds files that are not an
+	// ErrForeignFolder: the output folder holds an entry that is not an
 	// earlier output of the same kind, which replacing it would lose.
-	ErrForeignFolder = errors.New("holds files that are not an earlier output of this command: give a new or empty folder")
+	ErrForeignFolder = errors.New("is not an earlier output of this command, and replacing the folder would lose it: give a new or empty folder")
 	// ErrBusy: another run is writing the same output folder.
 	ErrBusy = errors.New("another wetline run is writing this folder")
 	// ErrNotFolder: the output folder's path names a file.
@@ -25,23 +25,34 @@ var (
 	ErrFolderName = errors.New("not a plain file name")
 )
 
+// Listed reads an output folder's index (the marker file's content) and
+// returns the names of the files it lists.
+type Listed func(index []byte) ([]string, error)
+
 // Folder is an output folder written whole: its files go into a fresh
 // hidden folder beside the destination, which replaces the destination
 // when the set is committed. An interrupted or failed run leaves the
 // destination as it was. Only a folder that is absent, empty, or an
-// earlier output of the same kind (holding the marker file) is replaced,
-// and one run at a time may write it.
+// earlier output of the same kind is replaced: one holding the marker
+// file (its index) and nothing but the regular files the index lists, so
+// that replacing it loses nothing but an earlier output. One run at a
+// time may write it.
 type Folder struct {
 	files           *Files
 	dest, tmp, lock string
+	marker          string
+	listed          Listed
 	names           map[string]bool
 	swapped         bool
 }
 
-// Folder starts an output folder at path; marker names the file every
-// output of this kind holds (an index, say), which marks an existing
-// folder as safe to replace. The folder must not hold any input.
-func (f *Files) Folder(path, marker string) (*Folder, error) {
+// Folder starts an output folder at path; marker names the index file
+// every output of this kind holds, and listed reads the names of the files
+// an index lists (nil: none but the marker). The folder must not hold any
+// input; its parent folder must exist (or be one the run may create, see
+// MayCreate). A path that is a symbolic link is refused, as replacing it
+// would replace the link.
+func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.closed {
@@ -54,16 +65,17 @@ func (f *Files) Folder(path, marker string) (*Folder, error) {
 		}
 	}
 	parent, base := filepath.Dir(path), filepath.Base(path)
-	if err := checkFolder(parent); err != nil {
+	if err := f.rulesLocked().checkFolder(parent); err != nil {
 		return fail(err)
 	}
-	if err := checkReplaceable(path, marker); err != nil {
-		return fail(err)
+	d := &Folder{files: f, dest: path, marker: marker, listed: listed,
+		lock: filepath.Join(parent, "."+base+".lock"), names: map[string]bool{}}
+	if err := d.check(); err != nil {
+		return nil, err
 	}
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return nil, err
 	}
-	d := &Folder{files: f, dest: path, lock: filepath.Join(parent, "."+base+".lock"), names: map[string]bool{}}
 	if err := takeLock(d.lock); err != nil {
 		return fail(err)
 	}
@@ -77,30 +89,71 @@ func (f *Files) Folder(path, marker string) (*Folder, error) {
 	return d, nil
 }
 
-// checkReplaceable accepts an absent folder, an empty one, or one holding
-// marker.
-func checkReplaceable(path, marker string) error {
-	st, err := os.Lstat(path)
+// check accepts an absent folder, an empty one, or an earlier output:
+// the marker and nothing but the regular files it lists. The error names
+// the folder and its first other entry.
+func (d *Folder) check() error {
+	fail := func(err error) error { return fmt.Errorf("%s: %w", d.dest, err) }
+	st, err := os.Lstat(d.dest)
 	if errors.Is(err, fs.ErrNotExist) {
 		return nil
 	}
 	if err != nil {
-		return err
+		return fail(err)
+	}
+	if st.Mode()&fs.ModeSymlink != 0 {
+		if _, err := os.Stat(d.dest); err != nil {
+			return fail(ErrDangling)
+		}
+		return fail(ErrLink)
 	}
 	if !st.IsDir() {
-		return ErrNotFolder
+		return fail(ErrNotFolder)
 	}
-	ents, err := os.ReadDir(path)
+	ents, err := os.ReadDir(d.dest)
 	if err != nil {
-		return err
+		return fail(err)
 	}
 	if len(ents) == 0 {
 		return nil
 	}
-	if m, err := os.Stat(filepath.Join(path, marker)); err == nil && m.Mode().IsRegular() {
-		return nil
+	known := map[string]bool{}
+	index := "not listed in its " + d.marker
+	if m, err := os.Lstat(filepath.Join(d.dest, d.marker)); err != nil || !m.Mode().IsRegular() {
+		index = "and no " + d.marker + " lists it"
+	} else {
+		data, err := os.ReadFile(filepath.Join(d.dest, d.marker))
+		if err != nil {
+			return fail(err)
+		}
+		var names []string
+		if d.listed != nil {
+			names, err = d.listed(data)
+		}
+		if err != nil {
+			// Not an index of this command's: it and everything beside
+			// it are someone else's.
+			index = "and its " + d.marker + " is not an index this command wrote"
+		} else {
+			known[d.marker] = true
+			for _, n := range names {
+				if n != "" && n == filepath.Base(n) {
+					known[n] = true
+				}
+			}
+		}
 	}
-	return ErrForeignFolder
+	for _, e := range ents {
+		switch {
+		case e.IsDir():
+			return fail(fmt.Errorf("%s/ (a folder) %w", e.Name(), ErrForeignFolder))
+		case !e.Type().IsRegular():
+			return fail(fmt.Errorf("%s (not a regular file) %w", e.Name(), ErrForeignFolder))
+		case !known[e.Name()]:
+			return fail(fmt.Errorf("%s (%s) %w", e.Name(), index, ErrForeignFolder))
+		}
+	}
+	return nil
 }
 
 // takeLock creates the lock file holding this process's id; a lock left
@@ -166,29 +219,6 @@ func (d *Folder) Write(name string, write func(io.Writer) error) error {
 		return err
 	}
 	return finish(out, write)
-}
-
-// swap puts the staged folder in place of the destination.
-func (d *Folder) swap() error {
-	defer os.Remove(d.lock)
-	old := ""
-	if _, err := os.Lstat(d.dest); err == nil {
-		old = d.tmp + ".old"
-		if err := os.Rename(d.dest, old); err != nil {
-			return err
-		}
-	}
-	if err := os.Rename(d.tmp, d.dest); err != nil {
-		if old != "" {
-			os.Rename(old, d.dest)
-		}
-		return err
-	}
-	d.swapped = true
-	if old != "" {
-		return os.RemoveAll(old)
-	}
-	return nil
 }
 
 // remove deletes the staged folder and the lock.

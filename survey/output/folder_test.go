@@ -5,19 +5,30 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
+	"syscall"
 	"testing"
 )
 
 const marker = "index.csv"
 
+// lines reads an index that lists one file name a line.
+func lines(index []byte) ([]string, error) { return strings.Fields(string(index)), nil }
+
+// writeFolder writes the named files into an output folder; the marker,
+// when named, lists them all.
 func writeFolder(t *testing.T, f *Files, path string, names ...string) error {
 	t.Helper()
-	d, err := f.Folder(path, marker)
+	d, err := f.Folder(path, marker, lines)
 	if err != nil {
 		return err
 	}
 	for _, n := range names {
-		if err := d.Write(n, text(n)); err != nil {
+		content := n
+		if n == marker {
+			content = strings.Join(names, "\n")
+		}
+		if err := d.Write(n, text(content)); err != nil {
 			return err
 		}
 	}
@@ -94,15 +105,16 @@ func TestFolderRefused(t *testing.T) {
 		{dir, ErrInput},      // so does its parent
 		{file, ErrNotFolder}, // a file
 		{filepath.Join(file, "x"), ErrNoFolder},
+		{filepath.Join(dir, "missing", "out"), ErrNoParent},
 	} {
 		f := New(in)
-		if _, err := f.Folder(c.path, marker); !errors.Is(err, c.want) {
+		if _, err := f.Folder(c.path, marker, lines); !errors.Is(err, c.want) {
 			t.Errorf("Folder(%s) = %v, want %v", c.path, err, c.want)
 		}
 		f.Discard()
 	}
 	f := New()
-	if _, err := f.Folder(surveys, marker); !errors.Is(err, ErrForeignFolder) {
+	if _, err := f.Folder(surveys, marker, lines); !errors.Is(err, ErrForeignFolder) {
 		t.Errorf("a folder of other files: %v, want ErrForeignFolder", err)
 	}
 	f.Discard()
@@ -121,7 +133,7 @@ func TestFolderBusy(t *testing.T) {
 		t.Fatal(err)
 	}
 	second := New()
-	if _, err := second.Folder(out, marker); !errors.Is(err, ErrBusy) {
+	if _, err := second.Folder(out, marker, lines); !errors.Is(err, ErrBusy) {
 		t.Errorf("second run: %v, want ErrBusy", err)
 	}
 	second.Discard()
@@ -143,7 +155,7 @@ func TestFolderBusy(t *testing.T) {
 func TestFolderNames(t *testing.T) {
 	f := New()
 	defer f.Discard()
-	d, err := f.Folder(filepath.Join(t.TempDir(), "out"), marker)
+	d, err := f.Folder(filepath.Join(t.TempDir(), "out"), marker, lines)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -157,5 +169,144 @@ func TestFolderNames(t *testing.T) {
 	}
 	if err := d.Write("a.csv", text("")); !errors.Is(err, ErrTwice) {
 		t.Errorf("a.csv after A.csv: %v, want ErrTwice", err)
+	}
+}
+
+// An existing folder is replaced only when every entry in it is an earlier
+// output: its index and the regular files the index lists. A file of the
+// user's, a sub-folder, a link or an unlisted file is refused, naming the
+// first such entry, and the folder is left whole.
+func TestFolderForeignEntries(t *testing.T) {
+	for _, c := range []struct {
+		name  string
+		setup func(t *testing.T, out string)
+		names string // named in the error
+	}{
+		{"a file the index does not list", func(t *testing.T, out string) {
+			writeString(t, filepath.Join(out, "fieldbook.txt"), "page 1\n")
+		}, "fieldbook.txt"},
+		{"a sub-folder", func(t *testing.T, out string) {
+			if err := os.Mkdir(filepath.Join(out, "photos"), 0o755); err != nil {
+				t.Fatal(err)
+			}
+		}, "photos/"},
+		{"a link the index lists", func(t *testing.T, out string) {
+			os.Remove(filepath.Join(out, "a.csv"))
+			if err := os.Symlink(filepath.Join(out, "b.csv"), filepath.Join(out, "a.csv")); err != nil {
+				t.Skip(err)
+			}
+		}, "a.csv"},
+		{"no index", func(t *testing.T, out string) {
+			os.Remove(filepath.Join(out, marker))
+		}, "a.csv"},
+	} {
+		dir := t.TempDir()
+		out := filepath.Join(dir, "ratings")
+		f := New()
+		if err := writeFolder(t, f, out, "a.csv", "b.csv", marker); err != nil {
+			t.Fatal(err)
+		}
+		if err := f.Commit(); err != nil {
+			t.Fatal(err)
+		}
+		c.setup(t, out)
+		before := leftovers(t, out)
+		f = New()
+		_, err := f.Folder(out, marker, lines)
+		if !errors.Is(err, ErrForeignFolder) || !strings.Contains(err.Error(), c.names) || strings.Contains(err.Error(), "\n") {
+			t.Errorf("%s: %v, want ErrForeignFolder naming %s on one line", c.name, err, c.names)
+		}
+		f.Discard()
+		if got := leftovers(t, out); fmt.Sprint(got) != fmt.Sprint(before) {
+			t.Errorf("%s: the folder now holds %v, want %v", c.name, got, before)
+		}
+		if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+			t.Errorf("%s: left beside it: %v", c.name, l)
+		}
+	}
+}
+
+// A file added to an earlier output between the check and the commit
+// stops the commit: the folder is left with it.
+func TestFolderForeignAtCommit(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	f := New()
+	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	f = New()
+	if err := writeFolder(t, f, out, "b.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	writeString(t, filepath.Join(out, "notes.txt"), "mine\n")
+	if err := f.Commit(); !errors.Is(err, ErrForeignFolder) {
+		t.Errorf("commit: %v, want ErrForeignFolder", err)
+	}
+	if got := readString(t, filepath.Join(out, "notes.txt")); got != "mine\n" {
+		t.Errorf("notes.txt: %q", got)
+	}
+}
+
+// A folder path that is a symbolic link (to a folder, or to nothing) is
+// refused and left as it is.
+func TestFolderLink(t *testing.T) {
+	dir := t.TempDir()
+	real := filepath.Join(dir, "real")
+	if err := os.Mkdir(real, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		target string
+		want   error
+	}{{real, ErrLink}, {filepath.Join(dir, "gone"), ErrDangling}} {
+		ln := filepath.Join(dir, "link-"+filepath.Base(c.target))
+		if err := os.Symlink(c.target, ln); err != nil {
+			t.Skip(err)
+		}
+		f := New()
+		if _, err := f.Folder(ln, marker, lines); !errors.Is(err, c.want) {
+			t.Errorf("Folder(%s) = %v, want %v", ln, err, c.want)
+		}
+		f.Discard()
+		if st, err := os.Lstat(ln); err != nil || st.Mode()&os.ModeSymlink == 0 {
+			t.Errorf("%s is no longer the link", ln)
+		}
+	}
+}
+
+// A folder and a file committed together: when the file cannot be put in
+// place, the folder swapped in before it is swapped back out.
+func TestFolderRolledBack(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	f := New()
+	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	f = New()
+	if err := writeFolder(t, f, out, "b.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	f.rename = func(o, n string) error {
+		if strings.HasSuffix(o, ".tmpdir") {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+	if err := f.Commit(); !errors.Is(err, ErrCommit) {
+		t.Errorf("commit: %v, want ErrCommit", err)
+	}
+	if l := leftovers(t, out); fmt.Sprint(l) != "[a.csv index.csv]" {
+		t.Errorf("folder holds %v, want the first run's", l)
+	}
+	if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+		t.Errorf("left beside it: %v", l)
 	}
 }

@@ -16,9 +16,19 @@ import (
 var (
 	// ErrInput: the destination is one of the run's input files.
 	ErrInput = errors.New("refusing to write over an input file")
+	// ErrStdin: the destination is the file standard input is read from
+	// (a survey redirected with < FILE), an input like any other.
+	ErrStdin = errors.New("is the file standard input is read from: refusing to write over an input file")
 	// ErrNotRegular: the destination exists and is not a regular file (a
-	// device, a pipe, a socket, or a link to one).
+	// device, a pipe, a socket).
 	ErrNotRegular = errors.New("not a regular file: refusing to write there (write to standard output with -o - instead)")
+	// ErrLink: the destination is a symbolic link. Renaming onto it would
+	// replace the link, and writing through it would replace a file
+	// elsewhere, so neither is done.
+	ErrLink = errors.New("is a symbolic link: refusing to write through it (name what it points to, or remove the link)")
+	// ErrDangling: the destination, or a folder on the way to it, is a
+	// symbolic link to nothing.
+	ErrDangling = errors.New("is a dangling symbolic link (it points to nothing): remove it or name another path")
 	// ErrStream: the destination names one of the process's streams or
 	// open files (/dev/stdout, /dev/fd/N, /proc/self/fd/N, or a link to
 	// one). Renaming onto it would replace the file the stream is
@@ -28,8 +38,17 @@ var (
 	ErrFolder = errors.New("is a folder: give a file name")
 	// ErrReadOnly: the destination is a read-only file.
 	ErrReadOnly = errors.New("is read-only: refusing to replace it")
+	// ErrExists: the destination of a file that must be new (WriteNew)
+	// exists.
+	ErrExists = errors.New("already exists and may hold data of yours: it is never replaced; remove it or choose another name")
 	// ErrNoFolder: the folder a file is to be written in is not a folder.
 	ErrNoFolder = errors.New("the folder to write in is a file")
+	// ErrNoParent: the folder a file is to be written in does not exist
+	// (and is not one the run may create, see MayCreate).
+	ErrNoParent = errors.New("does not exist: create it first, or name a folder that exists")
+	// ErrCommit: a destination could not be put in place at Commit; every
+	// destination was restored as it was.
+	ErrCommit = errors.New("could not be put in place, so no output was changed")
 	// ErrClosed: the set was committed or discarded (an interrupt).
 	ErrClosed = errors.New("interrupted: no more output is written")
 	// ErrTwice: the run writes the same file twice.
@@ -37,35 +56,44 @@ var (
 )
 
 // Files is the set of files one run writes. Each file is written whole to
-// a temporary file beside its destination; Commit renames them all into
-// place and Discard removes them. No destination changes before Commit, so
-// a run that fails anywhere, or is interrupted, leaves every existing file
-// as it was and no partial file behind.
+// a temporary file beside its destination; Commit puts them all in place
+// and Discard removes them. No destination changes before Commit, and
+// Commit changes all of them or none, so a run that fails anywhere, or is
+// interrupted, leaves every existing file as it was and no partial file
+// behind.
 //
-// Destinations are checked before anything is written: an input file, a
-// folder, a read-only file or anything that is not a regular file (a
-// device, a pipe, a link to one) is refused. A link to a regular file is
-// followed: the file it names is replaced and the link kept.
+// Destinations are checked before anything is written: an input file (or
+// the file standard input is read from), a folder, a read-only file, a
+// symbolic link, or anything that is not a regular file (a device, a pipe)
+// is refused. Links in the folders above a destination are followed. A
+// file is written only into a folder that exists, or one the run may
+// create (MayCreate).
 //
 // Make a Files with New. It is safe for concurrent use.
 type Files struct {
 	mu      sync.Mutex
 	inputs  []string
+	stdin   []fs.FileInfo // the files standard input is read from
+	create  []string      // folders the run may create, with folders inside them
 	staged  []*staged
 	folders []*Folder
 	made    []string // folders created for outputs, removed again if empty
 	closed  bool
 	seq     int
+	// rename puts a file or folder in place at Commit: os.Rename, or a
+	// test's that fails.
+	rename func(oldpath, newpath string) error
 }
 
 // staged is a file written to its temporary name, waiting for Commit.
 type staged struct {
 	dest, tmp string
+	fresh     bool // the destination must not exist (WriteNew)
 }
 
 // New returns an empty set that will never write over inputs.
 func New(inputs ...string) *Files {
-	return &Files{inputs: append([]string(nil), inputs...)}
+	return &Files{inputs: append([]string(nil), inputs...), rename: os.Rename}
 }
 
 // Protect adds input files that no output may replace.
@@ -75,23 +103,59 @@ func (f *Files) Protect(inputs ...string) {
 	f.inputs = append(f.inputs, inputs...)
 }
 
-// Check returns an error when path cannot be written: it names an input,
-// a folder, a read-only file, or anything but a regular file. A path
-// that does not exist yet is fine when its folder exists or can be made.
-// Errors name the path and wrap one of the Err causes.
-func (f *Files) Check(path string) error {
+// ProtectStdin adds the file standard input is read from (st, from
+// os.Stdin.Stat) to the inputs no output may replace: a survey read from
+// standard input redirected from a file. A pipe or a terminal (or a nil
+// st) protects nothing, as no output can be one.
+func (f *Files) ProtectStdin(st fs.FileInfo) {
+	if st == nil || !st.Mode().IsRegular() {
+		return
+	}
 	f.mu.Lock()
-	inputs := f.inputs
-	f.mu.Unlock()
-	_, err := destination(path, inputs)
-	return err
+	defer f.mu.Unlock()
+	f.stdin = append(f.stdin, st)
 }
 
-// destination resolves path (following a link to a regular file) and
-// checks it; it returns the path to rename onto.
-func destination(path string, inputs []string) (string, error) {
-	fail := func(err error) (string, error) { return "", fmt.Errorf("%s: %w", path, err) }
-	for _, in := range inputs {
+// MayCreate lets the run create folder dir, and folders inside it, for
+// its outputs, when the folder dir is in exists. Any other missing folder
+// is refused (ErrNoParent). Folders made for a run that fails are removed
+// again when empty.
+func (f *Files) MayCreate(dir string) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	f.create = append(f.create, dir)
+}
+
+// rules are what a destination is checked against.
+type rules struct {
+	inputs, create []string
+	stdin          []fs.FileInfo
+}
+
+func (f *Files) rulesLocked() rules {
+	return rules{inputs: f.inputs, create: f.create, stdin: f.stdin}
+}
+
+func (f *Files) rules() rules {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	return f.rulesLocked()
+}
+
+// Check returns an error when path cannot be written: it names an input,
+// a folder, a read-only file, a symbolic link, or anything but a regular
+// file, or its folder is missing (and may not be created). Errors name
+// the path and wrap one of the Err causes.
+func (f *Files) Check(path string) error { return f.rules().destination(path, false) }
+
+// CheckNew is Check for a file that must not exist yet (WriteNew).
+func (f *Files) CheckNew(path string) error { return f.rules().destination(path, true) }
+
+// destination checks path as the destination of a file; fresh requires
+// that nothing is there yet.
+func (r rules) destination(path string, fresh bool) error {
+	fail := func(err error) error { return fmt.Errorf("%s: %w", path, err) }
+	for _, in := range r.inputs {
 		if in != "" && in != "-" && SamePath(path, in) {
 			return fail(ErrInput)
 		}
@@ -99,46 +163,52 @@ func destination(path string, inputs []string) (string, error) {
 	lst, err := os.Lstat(path)
 	if err != nil {
 		// Not there, or a file stands where a folder should be.
-		if ferr := checkFolder(filepath.Dir(path)); ferr != nil {
+		if ferr := r.checkFolder(filepath.Dir(path)); ferr != nil {
 			return fail(ferr)
 		}
 		if errors.Is(err, fs.ErrNotExist) {
 			if throughStream(path) {
 				return fail(ErrStream)
 			}
-			return path, nil
+			return nil
 		}
 		return fail(err)
 	}
-	dest := path
-	st := lst
 	if lst.Mode()&fs.ModeSymlink != 0 {
-		target, err := filepath.EvalSymlinks(path)
-		if err != nil {
-			if throughStream(path) {
-				// /dev/stdout when the output is a pipe or a terminal.
-				return fail(ErrStream)
-			}
-			return fail(fmt.Errorf("a link to nothing: %w", ErrNotRegular))
+		target, err := os.Stat(path)
+		switch {
+		case special(path), err == nil && target.Mode().IsRegular() && throughStream(path):
+			// /dev/stdout itself, or a link to a file the process's
+			// output is redirected to.
+			return fail(ErrStream)
+		case err != nil && throughStream(path):
+			// A link to /dev/stdout when the output is a pipe.
+			return fail(ErrStream)
+		case err != nil:
+			return fail(ErrDangling)
 		}
-		if st, err = os.Stat(target); err != nil {
-			return fail(err)
+		return fail(ErrLink)
+	}
+	for _, st := range r.stdin {
+		if os.SameFile(st, lst) {
+			return fail(ErrStdin)
 		}
-		dest = target
 	}
 	switch {
-	case st.IsDir():
+	case lst.IsDir():
 		return fail(ErrFolder)
-	case !st.Mode().IsRegular():
+	case !lst.Mode().IsRegular():
 		return fail(ErrNotRegular)
-	case st.Mode().Perm()&0o200 == 0:
-		return fail(ErrReadOnly)
 	case throughStream(path):
-		// A regular file reached through /dev/stdout or the like: the
-		// file the process's output is redirected to.
+		// A regular file reached through /dev/fd or the like: the file
+		// the process's output is redirected to.
 		return fail(ErrStream)
+	case fresh:
+		return fail(ErrExists)
+	case lst.Mode().Perm()&0o200 == 0:
+		return fail(ErrReadOnly)
 	}
-	return dest, nil
+	return nil
 }
 
 // throughStream reports whether path, or a link on the way from it to the
@@ -146,18 +216,6 @@ func destination(path string, inputs []string) (string, error) {
 // /dev/stdout and /proc/self/fd/1 name whatever the process's output is:
 // a terminal, a pipe, or a regular file it was redirected to.
 func throughStream(path string) bool {
-	special := func(p string) bool {
-		abs, err := filepath.Abs(p)
-		if err != nil {
-			return false
-		}
-		for _, root := range []string{"/dev", "/proc"} {
-			if abs == root || strings.HasPrefix(abs, root+"/") {
-				return true
-			}
-		}
-		return false
-	}
 	p := path
 	for hop := 0; hop < 40; hop++ {
 		if special(p) {
@@ -182,24 +240,59 @@ func throughStream(path string) bool {
 	return false
 }
 
-// checkFolder accepts a folder that exists, or a path none of whose
-// existing ancestors is a file.
-func checkFolder(dir string) error {
+// special reports whether path lies in a device or process folder (/dev,
+// /proc).
+func special(p string) bool {
+	abs, err := filepath.Abs(p)
+	if err != nil {
+		return false
+	}
+	for _, root := range []string{"/dev", "/proc"} {
+		if abs == root || strings.HasPrefix(abs, root+"/") {
+			return true
+		}
+	}
+	return false
+}
+
+// checkFolder accepts a folder that exists, or a missing one that the
+// run may create: the first missing folder on the way to dir is (or lies
+// in) a folder given to MayCreate. A file, or a dangling link, standing
+// on the way is refused.
+func (r rules) checkFolder(dir string) error {
+	top := "" // the first missing folder on the way to dir
 	for d := dir; ; d = filepath.Dir(d) {
 		st, err := os.Stat(d)
 		if err == nil {
 			if !st.IsDir() {
 				return fmt.Errorf("%w (%s)", ErrNoFolder, d)
 			}
-			return nil
+			if top == "" || r.creatable(top) {
+				return nil
+			}
+			return fmt.Errorf("the folder %s %w", top, ErrNoParent)
 		}
 		if !errors.Is(err, fs.ErrNotExist) && !errors.Is(err, syscall.ENOTDIR) {
 			return err
 		}
+		if lst, lerr := os.Lstat(d); lerr == nil && lst.Mode()&fs.ModeSymlink != 0 {
+			return fmt.Errorf("the folder %s %w", d, ErrDangling)
+		}
+		top = d
 		if next := filepath.Dir(d); next == d {
-			return nil
+			return fmt.Errorf("the folder %s %w", top, ErrNoParent)
 		}
 	}
+}
+
+// creatable reports whether the run may create folder dir.
+func (r rules) creatable(dir string) bool {
+	for _, c := range r.create {
+		if c != "" && Inside(dir, c) {
+			return true
+		}
+	}
+	return false
 }
 
 // Write writes a file through a temporary file beside path. The file
@@ -207,6 +300,16 @@ func checkFolder(dir string) error {
 // is returned (and nothing of this file is left); the caller should then
 // Discard the whole set.
 func (f *Files) Write(path string, write func(io.Writer) error) error {
+	return f.write(path, false, write)
+}
+
+// WriteNew is Write for a file that must not replace anything: an
+// existing path is refused (ErrExists), now and at Commit.
+func (f *Files) WriteNew(path string, write func(io.Writer) error) error {
+	return f.write(path, true, write)
+}
+
+func (f *Files) write(path string, fresh bool, write func(io.Writer) error) error {
 	f.mu.Lock()
 	if f.closed {
 		f.mu.Unlock()
@@ -218,16 +321,15 @@ func (f *Files) Write(path string, write func(io.Writer) error) error {
 			return fmt.Errorf("%s: %w", path, ErrTwice)
 		}
 	}
-	inputs := f.inputs
+	r := f.rulesLocked()
 	f.mu.Unlock()
-	dest, err := destination(path, inputs)
-	if err != nil {
+	if err := r.destination(path, fresh); err != nil {
 		return err
 	}
-	if err := f.makeFolder(filepath.Dir(dest)); err != nil {
+	if err := f.makeFolder(filepath.Dir(path)); err != nil {
 		return err
 	}
-	tmp, entry, err := f.createTemp(dest)
+	tmp, entry, err := f.createTemp(path)
 	if err != nil {
 		return err
 	}
@@ -241,7 +343,7 @@ func (f *Files) Write(path string, write func(io.Writer) error) error {
 		os.Remove(entry.tmp)
 		return ErrClosed
 	}
-	entry.dest = dest
+	entry.dest, entry.fresh = path, fresh
 	return nil
 }
 
@@ -326,11 +428,17 @@ func (f *Files) drop(e *staged) {
 	}
 }
 
-// Commit renames every written file into place, in the order written,
-// keeping an existing file's permissions, then swaps in every folder.
-// Destinations are checked once more first; a refused one stops the
-// commit before anything is renamed, and discards the set. After a
-// commit the set takes new files for a later commit.
+// Commit puts every written file and folder in place, all or none,
+// keeping an existing file's permissions. Destinations are checked once
+// more first; a refused one stops the commit before anything changes.
+// Then every existing file is backed up beside itself (a hard link, or a
+// copy where links cannot be made), the new files and folders are renamed
+// in one by one (a folder's old content moved aside first), and the
+// backups removed. When a rename fails, every destination already
+// replaced gets its backup back and every new one is removed, and the
+// error (ErrCommit) names the destination that failed. Any failure
+// discards the set. After a commit the set takes new files for a later
+// commit.
 func (f *Files) Commit() error {
 	f.mu.Lock()
 	defer f.mu.Unlock()
@@ -343,12 +451,20 @@ func (f *Files) Commit() error {
 			files = append(files, s)
 		}
 	}
+	r := f.rulesLocked()
 	for _, s := range files {
-		if _, err := destination(s.dest, f.inputs); err != nil {
+		if err := r.destination(s.dest, s.fresh); err != nil {
 			f.discardLocked()
 			return err
 		}
 	}
+	for _, d := range f.folders {
+		if err := d.check(); err != nil {
+			f.discardLocked()
+			return err
+		}
+	}
+	var steps []*step
 	for _, s := range files {
 		mode := os.FileMode(0o644)
 		if st, err := os.Stat(s.dest); err == nil {
@@ -358,20 +474,169 @@ func (f *Files) Commit() error {
 			f.discardLocked()
 			return err
 		}
-		if err := os.Rename(s.tmp, s.dest); err != nil {
-			f.discardLocked()
-			return err
-		}
-		s.tmp = ""
+		steps = append(steps, &step{dest: s.dest, tmp: s.tmp, file: s})
 	}
 	for _, d := range f.folders {
-		if err := d.swap(); err != nil {
+		steps = append(steps, &step{dest: d.dest, tmp: d.tmp, folder: d})
+	}
+	// Back up every existing file: nothing changes yet.
+	for _, st := range steps {
+		if err := f.backup(st); err != nil {
+			for _, b := range steps {
+				b.dropBackup()
+			}
 			f.discardLocked()
-			return err
+			return fmt.Errorf("%s: %w (cannot keep a copy of it: %w)", st.dest, ErrCommit, err)
+		}
+	}
+	for i, st := range steps {
+		if err := f.install(st); err != nil {
+			kept := ""
+			for j := i - 1; j >= 0; j-- {
+				if rerr := steps[j].undo(); rerr != nil {
+					kept += fmt.Sprintf("; %s could not be restored (%v): its earlier content is kept as %s", steps[j].dest, rerr, steps[j].backup)
+					steps[j].backup = "" // keep it
+				}
+			}
+			for _, b := range steps {
+				b.dropBackup()
+			}
+			f.discardLocked()
+			if kept != "" {
+				return fmt.Errorf("%s: could not be put in place (%w)%s", st.dest, err, kept)
+			}
+			return fmt.Errorf("%s: %w (%w)", st.dest, ErrCommit, err)
+		}
+	}
+	for _, st := range steps {
+		st.dropBackup()
+		if st.folder != nil {
+			os.Remove(st.folder.lock)
 		}
 	}
 	f.staged, f.folders, f.made = nil, nil, nil
 	return nil
+}
+
+// step is one destination of a commit: a file or a folder, the new one
+// at tmp, and the backup of what stood at dest.
+type step struct {
+	dest, tmp string
+	file      *staged
+	folder    *Folder
+	backup    string // the backup of the old file or folder; "" for none
+	installed bool
+}
+
+// backup keeps what stands at a file's destination beside it, as a hard
+// link (or a copy), leaving the destination as it is. A folder's old
+// content is moved aside only when it is replaced (install).
+func (f *Files) backup(st *step) error {
+	if st.folder != nil {
+		return nil
+	}
+	lst, err := os.Lstat(st.dest)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	f.seq++
+	bak := filepath.Join(filepath.Dir(st.dest), fmt.Sprintf(".%s.%d-%d.bak", filepath.Base(st.dest), os.Getpid(), f.seq))
+	if err := os.Link(st.dest, bak); err != nil {
+		if err := copyFile(st.dest, bak, lst.Mode().Perm()); err != nil {
+			os.Remove(bak)
+			return err
+		}
+	}
+	st.backup = bak
+	return nil
+}
+
+// copyFile copies a regular file whole to a new file.
+func copyFile(from, to string, mode os.FileMode) error {
+	in, err := os.Open(from)
+	if err != nil {
+		return err
+	}
+	defer in.Close()
+	out, err := os.OpenFile(to, os.O_RDWR|os.O_CREATE|os.O_EXCL, mode)
+	if err != nil {
+		return err
+	}
+	return finish(out, func(w io.Writer) error { _, err := io.Copy(w, in); return err })
+}
+
+// install puts one new file or folder in place.
+func (f *Files) install(st *step) error {
+	if st.file != nil {
+		if st.file.fresh {
+			// Never over a file that appeared since the check: a hard
+			// link fails where anything stands.
+			if err := os.Link(st.tmp, st.dest); err == nil {
+				os.Remove(st.tmp)
+				st.file.tmp, st.installed = "", true
+				return nil
+			} else if errors.Is(err, fs.ErrExist) {
+				return fmt.Errorf("%w", ErrExists)
+			}
+		}
+		if err := f.rename(st.tmp, st.dest); err != nil {
+			return err
+		}
+		st.file.tmp, st.installed = "", true
+		return nil
+	}
+	if _, err := os.Lstat(st.dest); err == nil {
+		old := st.tmp + ".old"
+		if err := f.rename(st.dest, old); err != nil {
+			return err
+		}
+		st.backup = old
+	}
+	if err := f.rename(st.tmp, st.dest); err != nil {
+		if st.backup != "" {
+			if os.Rename(st.backup, st.dest) == nil {
+				st.backup = ""
+			}
+		}
+		return err
+	}
+	st.installed, st.folder.swapped = true, true
+	return nil
+}
+
+// undo puts back what stood at an installed destination.
+func (st *step) undo() error {
+	if !st.installed {
+		return nil
+	}
+	if st.folder != nil {
+		// The new folder goes back to its temporary name, for Discard.
+		if err := os.Rename(st.dest, st.tmp); err != nil {
+			return err
+		}
+		st.folder.swapped = false
+	} else if st.backup == "" {
+		return os.Remove(st.dest)
+	}
+	if st.backup == "" {
+		return nil
+	}
+	if err := os.Rename(st.backup, st.dest); err != nil {
+		return err
+	}
+	st.backup = ""
+	return nil
+}
+
+// dropBackup removes a step's backup, if any.
+func (st *step) dropBackup() {
+	if st.backup != "" {
+		os.RemoveAll(st.backup)
+		st.backup = ""
+	}
 }
 
 // Discard removes every temporary file and staged folder, and the folders

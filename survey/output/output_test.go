@@ -119,7 +119,7 @@ func TestAllOrNothing(t *testing.T) {
 }
 
 // A commit replaces files whole, keeps their permissions and makes
-// missing folders.
+// missing folders the run may create.
 func TestCommitReplaces(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "rating.csv")
@@ -129,6 +129,7 @@ func TestCommitReplaces(t *testing.T) {
 	}
 	fig := filepath.Join(dir, "figs", "new", "rating.png")
 	f := New()
+	f.MayCreate(filepath.Join(dir, "figs"))
 	if err := f.Write(out, text("new\n")); err != nil {
 		t.Fatal(err)
 	}
@@ -163,6 +164,7 @@ func TestCommitReplaces(t *testing.T) {
 func TestDiscardRemovesMadeFolders(t *testing.T) {
 	dir := t.TempDir()
 	f := New()
+	f.MayCreate(filepath.Join(dir, "figs"))
 	if err := f.Write(filepath.Join(dir, "figs", "a.png"), text("png")); err != nil {
 		t.Fatal(err)
 	}
@@ -199,15 +201,22 @@ func TestRefusedDestinations(t *testing.T) {
 	inLink := link("latest.csv", in)
 	dirLink := link("surveys", dir)
 	dangling := link("nowhere", filepath.Join(dir, "missing", "x"))
+	other := filepath.Join(dir, "other.txt")
+	writeString(t, other, "someone's notes\n")
+	fileLink := link("figure.png", other)
+	folderLink := link("figs", filepath.Join(dir, "gone"))
 	for _, c := range []struct {
 		out  string
 		want error
 	}{
 		{os.DevNull, ErrNotRegular},
 		{fifo, ErrNotRegular},
-		{fifoLink, ErrNotRegular},
-		{devLink, ErrNotRegular},
-		{dangling, ErrNotRegular},
+		{fifoLink, ErrLink},
+		{devLink, ErrLink},
+		{dangling, ErrDangling},
+		{fileLink, ErrLink},
+		{filepath.Join(folderLink, "rating.png"), ErrDangling},
+		{filepath.Join(dir, "missing", "deeper", "out.csv"), ErrNoParent},
 		{dir, ErrFolder},
 		{ro, ErrReadOnly},
 		{in, ErrInput},
@@ -241,14 +250,19 @@ func TestRefusedDestinations(t *testing.T) {
 	if got := readString(t, in); !strings.HasPrefix(got, "station") {
 		t.Errorf("input changed to %q", got)
 	}
-	if l := leftovers(t, dir, "xs1.csv", "pipe", "kept.csv", "pipe-link", "null-link", "latest.csv", "surveys", "nowhere"); len(l) > 0 {
+	if got := readString(t, other); got != "someone's notes\n" {
+		t.Errorf("the file a link points to changed to %q", got)
+	}
+	if l := leftovers(t, dir, "xs1.csv", "pipe", "kept.csv", "pipe-link", "null-link", "latest.csv", "surveys", "nowhere",
+		"other.txt", "figure.png", "figs"); len(l) > 0 {
 		t.Errorf("files left behind: %v", l)
 	}
 }
 
-// A link to a regular file is followed: the file is replaced, the link
-// kept.
-func TestWriteThroughLink(t *testing.T) {
+// A link to a regular file is refused: neither the link nor the file it
+// points to changes. Links in the folders above a destination are
+// followed.
+func TestLinkRefused(t *testing.T) {
 	dir := t.TempDir()
 	target := filepath.Join(dir, "real.csv")
 	writeString(t, target, "old\n")
@@ -257,17 +271,179 @@ func TestWriteThroughLink(t *testing.T) {
 		t.Skip("symbolic links not available:", err)
 	}
 	f := New()
-	if err := f.Write(ln, text("new\n")); err != nil {
+	if err := f.Write(ln, text("new\n")); !errors.Is(err, ErrLink) {
+		t.Fatalf("write through a link: %v, want ErrLink", err)
+	}
+	f.Discard()
+	if st, err := os.Lstat(ln); err != nil || st.Mode()&os.ModeSymlink == 0 {
+		t.Errorf("the link was replaced: %v", err)
+	}
+	if got := readString(t, target); got != "old\n" {
+		t.Errorf("target %q", got)
+	}
+	sub := filepath.Join(dir, "sub")
+	if err := os.Mkdir(sub, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(sub, filepath.Join(dir, "figs")); err != nil {
+		t.Fatal(err)
+	}
+	f = New()
+	if err := f.Write(filepath.Join(dir, "figs", "a.png"), text("png")); err != nil {
 		t.Fatal(err)
 	}
 	if err := f.Commit(); err != nil {
 		t.Fatal(err)
 	}
-	if st, err := os.Lstat(ln); err != nil || st.Mode()&os.ModeSymlink == 0 {
-		t.Errorf("the link was replaced: %v", err)
+	if got := readString(t, filepath.Join(sub, "a.png")); got != "png" {
+		t.Errorf("through a linked folder: %q", got)
 	}
-	if got := readString(t, target); got != "new\n" {
-		t.Errorf("target %q", got)
+}
+
+// failRename is a rename that fails for destinations named fail.
+func failRename(fail string) func(o, n string) error {
+	return func(o, n string) error {
+		if filepath.Base(n) == fail {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+}
+
+// A commit is all or nothing: when one destination cannot be replaced
+// (here a rename that fails, as onto an immutable file), the files put in
+// place before it get their old content back, new ones are removed, and
+// no backup or temporary file is left; the error names the destination
+// and says nothing was changed.
+func TestCommitRollsBack(t *testing.T) {
+	dir := t.TempDir()
+	report := filepath.Join(dir, "out.csv")
+	figs := filepath.Join(dir, "figs")
+	if err := os.Mkdir(figs, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	rating, props, section := filepath.Join(figs, "xs-rating.png"), filepath.Join(figs, "xs-properties.png"), filepath.Join(figs, "xs-section.png")
+	writeString(t, report, "old report\n")
+	writeString(t, rating, "old rating\n")
+	writeString(t, props, "old properties\n")
+	if err := os.Chmod(report, 0o640); err != nil {
+		t.Fatal(err)
+	}
+	f := New()
+	f.rename = failRename("xs-properties.png")
+	for _, p := range []string{report, rating, section, props} {
+		if err := f.Write(p, text("new\n")); err != nil {
+			t.Fatal(err)
+		}
+	}
+	err := f.Commit()
+	if !errors.Is(err, ErrCommit) || !strings.Contains(err.Error(), "xs-properties.png") || !errors.Is(err, syscall.EPERM) {
+		t.Fatalf("commit: %v, want ErrCommit naming xs-properties.png", err)
+	}
+	for p, want := range map[string]string{report: "old report\n", rating: "old rating\n", props: "old properties\n"} {
+		if got := readString(t, p); got != want {
+			t.Errorf("%s holds %q after a failed commit, want %q", p, got, want)
+		}
+	}
+	if st, err := os.Stat(report); err != nil || st.Mode().Perm() != 0o640 {
+		t.Errorf("report mode %v (%v), want 0640", st.Mode(), err)
+	}
+	if _, err := os.Stat(section); !os.IsNotExist(err) {
+		t.Errorf("a new figure is left: %v", err)
+	}
+	if l := leftovers(t, dir, "out.csv", "figs"); len(l) > 0 {
+		t.Errorf("files left behind: %v", l)
+	}
+	if l := leftovers(t, figs, "xs-rating.png", "xs-properties.png"); len(l) > 0 {
+		t.Errorf("files left behind in figs: %v", l)
+	}
+	// The same files commit once nothing stands in the way.
+	f = New()
+	for _, p := range []string{report, rating} {
+		if err := f.Write(p, text("new\n")); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, rating); got != "new\n" {
+		t.Errorf("rating %q", got)
+	}
+	if l := leftovers(t, figs, "xs-rating.png", "xs-properties.png"); len(l) > 0 {
+		t.Errorf("backups left behind: %v", l)
+	}
+}
+
+// The file standard input is read from is an input: no output replaces
+// it, under any name that reaches it.
+func TestStdinProtected(t *testing.T) {
+	dir := t.TempDir()
+	in := filepath.Join(dir, "xs.csv")
+	writeString(t, in, "station,elevation\n")
+	hard := filepath.Join(dir, "hard.csv")
+	if err := os.Link(in, hard); err != nil {
+		t.Skip(err)
+	}
+	st, err := os.Stat(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f := New()
+	f.ProtectStdin(st)
+	for _, p := range []string{in, hard, filepath.Join(dir, ".", "xs.csv")} {
+		if err := f.Write(p, text("rating")); !errors.Is(err, ErrStdin) {
+			t.Errorf("Write(%s) = %v, want ErrStdin", p, err)
+		}
+	}
+	if err := f.Write(filepath.Join(dir, "other.csv"), text("rating")); err != nil {
+		t.Errorf("another file: %v", err)
+	}
+	f.Discard()
+	if got := readString(t, in); got != "station,elevation\n" {
+		t.Errorf("input changed to %q", got)
+	}
+}
+
+// WriteNew never replaces a file: an existing one is refused before
+// writing, and one that appears before the commit stops it.
+func TestWriteNew(t *testing.T) {
+	dir := t.TempDir()
+	book := filepath.Join(dir, "field.xlsx")
+	writeString(t, book, "filled in\n")
+	f := New()
+	if err := f.CheckNew(book); !errors.Is(err, ErrExists) {
+		t.Errorf("CheckNew: %v, want ErrExists", err)
+	}
+	if err := f.WriteNew(book, text("blank")); !errors.Is(err, ErrExists) {
+		t.Errorf("WriteNew: %v, want ErrExists", err)
+	}
+	f.Discard()
+	fresh := filepath.Join(dir, "new.xlsx")
+	f = New()
+	if err := f.WriteNew(fresh, text("blank")); err != nil {
+		t.Fatal(err)
+	}
+	writeString(t, fresh, "typed meanwhile\n")
+	if err := f.Commit(); !errors.Is(err, ErrExists) {
+		t.Errorf("commit over a file made meanwhile: %v, want ErrExists", err)
+	}
+	if got := readString(t, fresh); got != "typed meanwhile\n" {
+		t.Errorf("replaced: %q", got)
+	}
+	os.Remove(fresh)
+	f = New()
+	if err := f.WriteNew(fresh, text("blank")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, fresh); got != "blank" {
+		t.Errorf("new file %q", got)
+	}
+	if l := leftovers(t, dir, "field.xlsx", "new.xlsx"); len(l) > 0 {
+		t.Errorf("left behind: %v", l)
 	}
 }
 
