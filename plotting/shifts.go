@@ -117,6 +117,7 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	p.X.Tick.Marker = timeTicks{z}
 	p.Y.Tick.Marker = linearTicks{}
 	p.Legend.Top = true
+	legendCorner(p, append(gaugingXYs(pts), applied...))
 	err := render(w, size, shiftFigure(c, site, "shifts against time"), func(cv draw.Canvas) error {
 		p.Draw(cv)
 		return nil
@@ -232,7 +233,7 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 	p.X.Tick.Marker = linearTicks{}
 	p.Y.Tick.Marker = linearTicks{}
 	p.Legend.Top, p.Legend.Left = true, true
-	p.Legend.XOffs = vg.Points(8)
+	legendCorner(p, gaugingXYs(pts))
 	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
 		p.Draw(cv)
 		return nil

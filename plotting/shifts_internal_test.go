@@ -5,6 +5,7 @@ import (
 	"testing"
 	"time"
 
+	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 
 	"wetline/rating/gauged"
@@ -38,5 +39,29 @@ func TestShiftLineBreaks(t *testing.T) {
 	}
 	if got := splitAt(pts, nil); len(got) != 1 || len(got[0]) != len(pts) {
 		t.Errorf("no breaks: %d runs, want one of every point", len(got))
+	}
+}
+
+// A legend placed by legendCorner goes to the corner of the data area
+// holding the fewest points, the one it had winning a tie: with points
+// crowding the upper right (as late gaugings with large shifts do) it
+// moves to the emptiest corner; with no points it stays.
+func TestLegendCorner(t *testing.T) {
+	for _, tc := range []struct {
+		name      string
+		pts       plotter.XYs
+		top, left bool
+	}{
+		{"upper right crowded", plotter.XYs{{X: 9, Y: 9}, {X: 9.5, Y: 8}, {X: 1, Y: 1}, {X: 9, Y: 1}, {X: 1, Y: 9}, {X: 1.5, Y: 9}}, false, false},
+		{"lower left only empty", plotter.XYs{{X: 9, Y: 9}, {X: 1, Y: 9}, {X: 9, Y: 1}}, false, true},
+		{"no points", nil, true, false},
+	} {
+		p := plot.New()
+		p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = 0, 10, 0, 10
+		p.Legend.Top = true
+		legendCorner(p, tc.pts)
+		if p.Legend.Top != tc.top || p.Legend.Left != tc.left {
+			t.Errorf("%s: top %v left %v, want top %v left %v", tc.name, p.Legend.Top, p.Legend.Left, tc.top, tc.left)
+		}
 	}
 }
