@@ -284,6 +284,13 @@ type jsonConveyance struct {
 	Centre     Float `json:"centre_stage"`
 	TrendP     Float `json:"trend_p"`
 	ScatterLog Float `json:"scatter_log"`
+	// The join with the fitted rating at the highest gauging: ln S there
+	// is join_log_slope and above it ln S = join_log_slope + trend·(h −
+	// join_stage) (null when not joined).
+	JoinStage      Float `json:"join_stage"`
+	JoinDischarge  Float `json:"join_discharge"`
+	JoinConveyance Float `json:"join_conveyance"`
+	JoinLogSlope   Float `json:"join_log_slope"`
 }
 
 type jsonControl struct {
@@ -494,8 +501,13 @@ func jsonExtrapolationOf(r *gauged.Report, t *gauged.ControlTable) *jsonExtrapol
 	e := &jsonExtrapolation{ScaleFactor: Float(math.NaN()), ScaleStage: Float(r.Fit.HighStage), Note: t.AboveNote,
 		LargestGauged: Float(t.MaxDischarge), MaxMultiple: Float(t.MaxMultiple), WarnMultiple: Float(gauged.ExtrapolationWarnMultiple)}
 	if x := t.Extension; x != nil {
+		nan := Float(math.NaN())
 		e.ConveyanceSlope = &jsonConveyance{len(x.Points), x.Level, Float(x.LogSlope), Float(x.LogSlopeSE), Float(x.Trend), Float(x.TrendSE),
-			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog)}
+			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog), nan, nan, nan, nan}
+		if j := x.Join; j != nil {
+			c := e.ConveyanceSlope
+			c.JoinStage, c.JoinDischarge, c.JoinConveyance, c.JoinLogSlope = Float(j.Stage), Float(j.Discharge), Float(j.Conveyance), Float(j.LogSlope)
+		}
 	}
 	return e
 }
