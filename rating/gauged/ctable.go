@@ -324,6 +324,13 @@ func (t *ControlTable) aboveNote() string {
 		return head + fmt.Sprintf("the conveyance-slope extension Q = K·√S(h) on %s, from the fitted rating's S = (Q/K)² there; S of the %d highest gaugings %s (Kennedy, 1984)",
 			ref, len(e.Points), how)
 	}
+	if t.Method == Bayesian && t.topPriorWeak() {
+		src := "weak priors"
+		if ps := f.Posterior.PriorSources; len(ps) > 0 && ps[len(ps)-1] != "" {
+			src = ps[len(ps)-1]
+		}
+		return head + fmt.Sprintf("the table carries the top control's power law on with no hydraulic basis (%s, none from a survey); its bands are those of the posterior carried on", src)
+	}
 	if t.Method == Bayesian {
 		return head + "the table carries the fitted controls on; its bands are those of the posterior, which there rests on the top control's prior as the gaugings pull it"
 	}
@@ -335,10 +342,23 @@ func (t *ControlTable) aboveWhat() string {
 	switch {
 	case t.Extension != nil:
 		return "conveyance-slope extension"
+	case t.Method == Bayesian && t.topPriorWeak():
+		return "top control carried on with weak priors, with no hydraulic basis"
 	case t.Method == Bayesian:
 		return "top control's prior as the gaugings pull it"
 	}
 	return "top control carried on"
+}
+
+// topPriorWeak reports a Bayesian fit whose top control's priors of ln A
+// and C are the weak defaults (neither from a survey nor given): above
+// the gaugings nothing hydraulic holds it.
+func (t *ControlTable) topPriorWeak() bool {
+	p := t.fit.Posterior
+	if p == nil || len(p.informative) == 0 {
+		return false
+	}
+	return !p.informative[len(p.informative)-1]
 }
 
 // tableStages lays out round stages from lo to top in step (default a

@@ -222,3 +222,47 @@ func TestSelection(t *testing.T) {
 		t.Errorf("warnings %q", f.Warnings)
 	}
 }
+
+// What a Bayesian table says of its rows above the gaugings follows the
+// top control's priors: weak ones (no survey) carry the power law on with
+// no hydraulic basis, as least squares without a section does; priors
+// from the survey hold it there, pulled by the gaugings. The note, and
+// the warning past ExtrapolationWarnMultiple, say so.
+func TestControlTableBayesAboveNote(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.040, 0.0012)
+	gs := gaugeTruth(t, truth, linspace(0.3, 1.5, 12), rand.New(rand.NewPCG(9, 9)))
+	for _, tc := range []struct {
+		name      string
+		hyd       *rating.HydraulicCurve
+		want, not string
+	}{
+		{"weak priors", nil, "no hydraulic basis", "as the gaugings pull it"},
+		{"survey priors", &survey, "as the gaugings pull it", "no hydraulic basis"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := gauged.FitBayes(gs, gauged.BayesOptions{
+				ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
+				Hydraulic:      tc.hyd, Chains: 2, Draws: 300, Seed: 2,
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: tc.hyd, To: 3.5, ShowUnconverged: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			warn := ""
+			for _, w := range tab.Warnings {
+				if strings.Contains(w, "times the largest gauged discharge") {
+					warn = w
+				}
+			}
+			for what, s := range map[string]string{"note": tab.AboveNote, "warning": warn} {
+				if !strings.Contains(s, tc.want) || strings.Contains(s, tc.not) {
+					t.Errorf("%s %q: want %q, not %q", what, s, tc.want, tc.not)
+				}
+			}
+		})
+	}
+}
