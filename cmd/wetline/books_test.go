@@ -209,7 +209,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 			t.Errorf("summary %q = %q, want %q", item, sum[item], want)
 		}
 	}
-	for item, want := range map[string]float64{"standard error of estimate": rep.SEPercent,
+	for item, want := range map[string]float64{"weighted standard error of estimate": rep.SEPercent,
 		"control 1: exponent C": rep.Segments[0].B, "control 1: offset B": rep.Segments[0].E} {
 		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)

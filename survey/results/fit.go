@@ -621,7 +621,11 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %.3g to %.3g expected)\n",
 			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), lo, hi)
 		if j > 0 {
-			p("    breakpoint %.4f ± %s %s%s\n", c.From, sig(c.FromSE, 2), L, map[bool]string{true: " (given)", false: ""}[f.BreaksFixed])
+			if f.BreaksFixed || math.IsNaN(c.FromSE) {
+				p("    breakpoint %.4f %s%s\n", c.From, L, map[bool]string{true: " (given)", false: " (no standard error)"}[f.BreaksFixed])
+			} else {
+				p("    breakpoint %.4f ± %s %s\n", c.From, sig(c.FromSE, 2), L)
+			}
 		}
 		if src := priorSource(f, j); src != "" {
 			p("    prior: %s\n", src)
@@ -634,7 +638,7 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	if f.OffsetFixed {
 		p("  first offset held at %.4f %s (%s)\n", f.Controls[0].B, L, f.OffsetSource)
 	}
-	p("  standard error of estimate %s %% (%s in ln Q)\n", fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4))
+	p("  %s\n", standardErrorWords(f))
 	if m := r.MoreControls; m.Made {
 		p("  one more control: F = %.2f, p = %.3g (poor fit below p = %g), standard error %.2f %%\n", m.F, m.P, gauged.PoorFitLevel, m.StandardErrorPercent)
 	}
@@ -645,6 +649,28 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// standardErrorWords says a fit's weighted standard error of estimate
+// with its degrees of freedom, or why it is not defined (no more gaugings
+// than parameters of the rating).
+func standardErrorWords(f *gauged.ControlFit) string {
+	if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
+		return "weighted standard error of estimate " + standardErrorUndefined(f)
+	}
+	return fmt.Sprintf("weighted standard error of estimate %s %% (%s in ln Q, %d degrees of freedom)",
+		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), f.StandardErrorDF)
+}
+
+// standardErrorUndefined says why a fit's standard error of estimate is
+// not defined.
+func standardErrorUndefined(f *gauged.ControlFit) string {
+	p := f.N - f.StandardErrorDF
+	aside := ""
+	if p != f.Params {
+		aside = ", the remnant error aside"
+	}
+	return fmt.Sprintf("not defined: %d gaugings for %d parameters of the rating%s (it needs more gaugings than parameters)", f.N, p, aside)
 }
 
 // writePosterior writes the posterior summaries.

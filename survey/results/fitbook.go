@@ -216,8 +216,13 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 			add(p+"prior", src, "")
 		}
 	}
-	add("standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
-	add("standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
+	if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
+		add("weighted standard error of estimate", standardErrorUndefined(f), "")
+	} else {
+		add("weighted standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
+		add("weighted standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
+		add("degrees of freedom of the standard error of estimate", f.StandardErrorDF, "")
+	}
 	if m := r.MoreControls; m.Made {
 		add("one more control", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", m.F, m.P, gauged.PoorFitLevel), "")
 	}
