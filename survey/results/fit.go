@@ -338,6 +338,7 @@ type jsonFitReport struct {
 	Warnings      []string            `json:"warnings"`
 	Caution       string              `json:"caution"`
 	SiteMetadata  *jsonSite           `json:"site_metadata"`
+	Section       string              `json:"section"`
 }
 
 // WriteFitJSON writes a gaugings report as one JSON object:
@@ -350,7 +351,8 @@ type jsonFitReport struct {
 //	 "floodplain_added",
 //	 "selection":{...},"band_note","bands_withheld","more_controls":{...},
 //	 "relation_tests":{...},"johnson":{...},"posterior":{...},
-//	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...}}
+//	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...},
+//	 "section"}
 //
 // zero_flow has fixed, source, stage and standard_error; calibration
 // (with a section, else null) channel_only, factor, standard_error_percent
@@ -367,12 +369,14 @@ type jsonFitReport struct {
 // the parametric band, as in earlier versions) and gauged_multiple;
 // posterior (Bayesian only, else null) parameters[] with name, mean, sd,
 // p2_5, p50, p97_5, prior_mean, prior_sd, and rhat_max, ess_min,
-// acceptance. site is the name the report goes by (the section's or the
-// gaugings file's); site_metadata what is known of the site (name, id,
-// surveyed, datum, crew; null when nothing). Stages are gauge heights.
+// acceptance. site is the name the report goes by (the gaugings file's;
+// before this version, with a section, the section's); section the
+// section's name ("" without); site_metadata what is known of the site
+// (name, id, surveyed, datum, crew; null when nothing). Stages are gauge
+// heights.
 // Parts that do not apply are null or empty; undefined numbers are null.
 func WriteFitJSON(w io.Writer, r *gauged.Report) error {
-	out := jsonFitReport{Site: r.Site, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
+	out := jsonFitReport{Site: r.Site, Section: r.Section, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
 		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: nonNil(r.Warnings), Caution: rating.Caution,
 		Convention: gauged.UncertaintyConvention(), HydSource: r.HydraulicSource, BankStage: Float(r.BankStage), Floodplain: r.FloodplainAdded,
@@ -545,9 +549,9 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil && r.DatumGiven:
-		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating at slope %g\n", rating.DatumTerm(r.Datum), L, r.Slope)
+		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating%s at slope %g\n", rating.DatumTerm(r.Datum), L, ofSection(r), r.Slope)
 	case r.Hydraulic != nil:
-		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating at slope %g\n", r.Slope)
+		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %g\n", ofSection(r), r.Slope)
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:
@@ -649,6 +653,15 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// ofSection names a report's section for "hydraulic rating …" ("" when
+// it has no name).
+func ofSection(r *gauged.Report) string {
+	if r.Section == "" {
+		return ""
+	}
+	return " of section " + r.Section
 }
 
 // standardErrorWords says a fit's weighted standard error of estimate

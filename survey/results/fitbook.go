@@ -135,10 +135,13 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	if name := r.Provenance.Site.Name; name != "" {
 		add("site", name, "")
 		if r.Site != name {
-			add("section or gaugings", r.Site, "")
+			add("gaugings file", r.Site, "")
 		}
 	} else {
 		add("site", r.Site, "")
+	}
+	if r.Section != "" {
+		add("section", r.Section, "")
 	}
 	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
 	add("program", programName(r.Provenance), "")

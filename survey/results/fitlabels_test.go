@@ -2,6 +2,7 @@ package results_test
 
 import (
 	"bytes"
+	"encoding/json"
 	"math"
 	"strconv"
 	"strings"
@@ -10,6 +11,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/subdivide"
 	"wetline/survey/results"
 )
 
@@ -112,5 +114,51 @@ func TestFitLabels(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A report with a section goes by its gaugings (Options.Site) and names
+// the section as the section: the text report's title and gauge datum
+// line, the workbook's summary and the JSON's section key.
+func TestFitNamesSectionAsSection(t *testing.T) {
+	sh, err := subdivide.ParseShape("trapezoid:bottom=10,side=2,height=5")
+	if err != nil {
+		t.Fatal(err)
+	}
+	g, err := sh.Build(subdivide.PerRegion{Channel: 0.035})
+	if err != nil {
+		t.Fatal(err)
+	}
+	hyd := rating.HydraulicCurve{Geometry: g, Options: rating.Options{Slope: 0.001}}
+	gs := labelGaugings([]float64{0.5, 0.7, 0.9, 1.1, 1.3, 1.5})
+	rep, err := gauged.Analyze(gs, gauged.Options{Site: "brook-gaugings", Section: "brook-xs", Units: rating.SI, Hydraulic: &hyd, DatumGiven: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text, js, book bytes.Buffer
+	if err := results.WriteFitText(&text, rep); err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range []string{"Gaugings at brook-gaugings: 6 measurements", "hydraulic rating of section brook-xs at slope 0.001"} {
+		if !strings.Contains(text.String(), w) {
+			t.Errorf("text lacks %q", w)
+		}
+	}
+	if err := results.WriteFitJSON(&js, rep); err != nil {
+		t.Fatal(err)
+	}
+	var obj map[string]any
+	if err := json.Unmarshal(js.Bytes(), &obj); err != nil {
+		t.Fatal(err)
+	}
+	if obj["site"] != "brook-gaugings" || obj["section"] != "brook-xs" || obj["hydraulic_source"] != "section brook-xs" {
+		t.Errorf("JSON site %v, section %v, hydraulic source %v", obj["site"], obj["section"], obj["hydraulic_source"])
+	}
+	if err := results.WriteFitWorkbook(&book, rep); err != nil {
+		t.Fatal(err)
+	}
+	items := summaryItems(t, openWritten(t, &book))
+	if items["site"] != "brook-gaugings|" || items["section"] != "brook-xs|" {
+		t.Errorf("workbook site %q, section %q", items["site"], items["section"])
 	}
 }
