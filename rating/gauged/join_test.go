@@ -20,7 +20,7 @@ var bandNames = [5]string{"discharge", "parametric lower", "parametric upper", "
 // top: the relative jump of each value from the row there to the table's
 // rule a micrometre above it is below a hundredth of the value's change
 // over the row step into the join. It returns the join's row index.
-func checkJoin(t *testing.T, tab gauged.ControlTable, top float64) int {
+func checkJoin(t *testing.T, tab gauged.ControlTable, top float64, above gauged.Basis) int {
 	t.Helper()
 	j := -1
 	for i, r := range tab.Rows {
@@ -36,14 +36,14 @@ func checkJoin(t *testing.T, tab gauged.ControlTable, top float64) int {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if up.Basis != gauged.ConveyanceSlopeAbove {
+	if up.Basis != above {
 		t.Fatalf("%g m above the join: basis %v", eps, up.Basis)
 	}
-	prev, at, above := bandValues(tab.Rows[j-1]), bandValues(tab.Rows[j]), bandValues(up)
+	prev, at, next := bandValues(tab.Rows[j-1]), bandValues(tab.Rows[j]), bandValues(up)
 	for k, name := range bandNames {
 		step := math.Abs(at[k]/prev[k] - 1)
-		if jump := math.Abs(above[k]/at[k] - 1); !(jump < 0.01*step) {
-			t.Errorf("%s jumps %.3g %% at the join (%g to %g), against %.3g %% over the step below", name, 100*jump, at[k], above[k], 100*step)
+		if jump := math.Abs(next[k]/at[k] - 1); !(jump < 0.01*step) {
+			t.Errorf("%s jumps %.3g %% at the join (%g to %g), against %.3g %% over the step below", name, 100*jump, at[k], next[k], 100*step)
 		}
 	}
 	return j
@@ -95,7 +95,7 @@ func TestControlTableExtensionJoin(t *testing.T) {
 			if e := tab.Extension; e.Level != tc.level {
 				t.Errorf("S level %v (trend %.3g, p %.2g), want %v", e.Level, e.Trend, e.TrendP, tc.level)
 			}
-			j := tab.Rows[checkJoin(t, tab, f.HighStage)]
+			j := tab.Rows[checkJoin(t, tab, f.HighStage, gauged.ConveyanceSlopeAbove)]
 			// The gaugings' own S line at the join, off the fitted rating's
 			// prediction band there, is warned of.
 			x := tab.Extension.Join
@@ -155,7 +155,7 @@ func TestControlTableExtensionRectangle(t *testing.T) {
 	if tab.Extension == nil || !tab.Extension.Level {
 		t.Fatalf("extension %+v, warnings %q", tab.Extension, tab.Warnings)
 	}
-	checkJoin(t, tab, f.HighStage)
+	checkJoin(t, tab, f.HighStage, gauged.ConveyanceSlopeAbove)
 	join, err := tab.At(1.5)
 	if err != nil {
 		t.Fatal(err)
@@ -184,4 +184,25 @@ func TestControlTableExtensionRectangle(t *testing.T) {
 			}
 		}
 	}
+}
+
+// A Bayesian table with a section carries the fitted controls on above
+// the highest gauging, its bands the posterior's: continuous there as
+// well (see checkJoin).
+func TestControlTableBayesJoin(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.040, 0.0012)
+	gs := gaugeTruth(t, truth, linspace(0.3, 1.5, 12), rand.New(rand.NewPCG(12, 12)))
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{
+		ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
+		Hydraulic:      &survey, Chains: 2, Draws: 1000, Seed: 3,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, To: 3, Step: 0.01, ShowUnconverged: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkJoin(t, tab, f.HighStage, gauged.FitAboveGaugings)
 }
