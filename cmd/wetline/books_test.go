@@ -166,9 +166,8 @@ type fitReport struct {
 	}
 	Extrapolation struct {
 		Slope struct {
-			LogSlope float64 `json:"log_slope"`
-			Trend    float64
-			Centre   float64 `json:"centre_stage"`
+			Trend     float64
+			JoinStage float64 `json:"join_stage"`
 		} `json:"conveyance_slope"`
 	}
 	Table []struct {
@@ -210,7 +209,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 			t.Errorf("summary %q = %q, want %q", item, sum[item], want)
 		}
 	}
-	for item, want := range map[string]float64{"standard error of estimate": rep.SEPercent,
+	for item, want := range map[string]float64{"weighted standard error of estimate": rep.SEPercent,
 		"control 1: exponent C": rep.Segments[0].B, "control 1: offset B": rep.Segments[0].E} {
 		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
@@ -276,23 +275,23 @@ func TestFitResultsWorkbook(t *testing.T) {
 
 	// The rule, evaluated here independently: Q = A·(h − B)^C on the
 	// control holding h (below the lowest gauging too), and above the
-	// highest gauging the conveyance-slope extension Q = K(h)·√S(h) with
-	// ln S = ln S̄ + trend·(h − centre) and K the section's conveyance at
-	// elevation h + datum (Kennedy, 1984, USGS TWRI 3-A10, as the table's
-	// doc says).
+	// highest gauging h_j the conveyance-slope extension joined to the
+	// fitted rating there, Q = Q_fit(h_j)·(K(h)/K(h_j))·exp(½·trend·(h −
+	// h_j)), K the section's conveyance at elevation h + datum (Kennedy,
+	// 1984, USGS TWRI 3-A10, with S at the join the fitted rating's, as the
+	// table's doc says).
 	p, err := survey.Prepare(survey.SectionRequest{Path: fitDemoSurvey})
 	if err != nil {
 		t.Fatal(err)
 	}
-	rule := func(h float64) float64 {
-		if h > high {
-			tab, err := rating.Compute(p.Geometry, []float64{h + 100}, rating.Options{Slope: 0.0012, Units: rating.SI})
-			if err != nil {
-				t.Fatal(err)
-			}
-			s := rep.Extrapolation.Slope
-			return tab.Rows[0].Conveyance * math.Sqrt(math.Exp(s.LogSlope+s.Trend*(h-s.Centre)))
+	conveyance := func(h float64) float64 {
+		tab, err := rating.Compute(p.Geometry, []float64{h + 100}, rating.Options{Slope: 0.0012, Units: rating.SI})
+		if err != nil {
+			t.Fatal(err)
 		}
+		return tab.Rows[0].Conveyance
+	}
+	fitted := func(h float64) float64 {
 		s := rep.Segments[0]
 		for _, seg := range rep.Segments {
 			if h >= seg.From {
@@ -303,6 +302,16 @@ func TestFitResultsWorkbook(t *testing.T) {
 			return 0
 		}
 		return s.C * math.Pow(h-s.E, s.B)
+	}
+	if s := rep.Extrapolation.Slope; s.JoinStage != high {
+		t.Errorf("extension joined at %g, the highest gauging is at %g", s.JoinStage, high)
+	}
+	qJoin, kJoin := fitted(high), conveyance(high)
+	rule := func(h float64) float64 {
+		if h > high {
+			return qJoin * conveyance(h) / kJoin * math.Exp(0.5*rep.Extrapolation.Slope.Trend*(h-high))
+		}
+		return fitted(h)
 	}
 	lk := readTitledSheet(t, f, results.SheetLookup)
 	if !strings.HasPrefix(lk.title, "discharge (m3/s) at each stage") {

@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"path/filepath"
 	"slices"
+	"strings"
 
 	"wetline/plotting"
 	"wetline/rating"
@@ -41,7 +43,7 @@ func (d *demo) fit() error {
 	}
 	hyd := &rating.HydraulicCurve{Geometry: p.Geometry, Datum: demoDatum, Options: rating.Options{Slope: demoSlope}}
 	report := func(m gauged.Method) (*gauged.Report, error) {
-		rep, err := gauged.Analyze(gs.Gaugings, gauged.Options{Site: p.Survey.Section.Name, Hydraulic: hyd, DatumGiven: true, Lookup: m == gauged.Bayesian,
+		rep, err := gauged.Analyze(gs.Gaugings, gauged.Options{Site: strings.TrimSuffix(demoGaugings, filepath.Ext(demoGaugings)), Section: p.Survey.Section.Name, Hydraulic: hyd, DatumGiven: true, Lookup: m == gauged.Bayesian,
 			Method: m, Floodplain: true, Controls: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
 			Bayes: gauged.BayesOptions{Seed: fitDefaultSeed}})
 		if err != nil {

@@ -184,7 +184,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		in.add(p.Inputs, p.Warnings)
 		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 		opt.DatumGiven = f.fs != nil && f.fs.Changed("datum")
-		opt.Site = p.Survey.Section.Name
+		opt.Section = p.Survey.Section.Name
 		in.site = in.site.Merge(p.Site)
 	}
 	if table != nil {
@@ -199,9 +199,8 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		in.add(p.Inputs, p.Warnings)
 		opt.Crest = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 	}
-	if opt.Site == "" {
-		opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
-	}
+	// The report goes by the gaugings' file, with or without a section.
+	opt.Site = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	rep, err := gauged.Analyze(gs.Gaugings, opt)
 	if errors.Is(err, gauged.ErrGaugingsOutsideSection) && !opt.DatumGiven {
 		return nil, fmt.Errorf("%s: %w: give --datum, the elevation of the gauge's zero in the survey's datum", path, err)

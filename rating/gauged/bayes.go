@@ -260,6 +260,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		np-- // the remnant is not a parameter of the rating
 	}
 	f.StandardErrorLog = b.modeScatter(f.Rating, np)
+	f.StandardErrorDF = b.d.n() - np
 	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
 	post := b.sample(modes, f.scale)
 	f.Posterior = post

@@ -100,8 +100,54 @@ type ControlTable struct {
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 
-	fit *ControlFit
-	hyd reference
+	fit  *ControlFit
+	hyd  reference
+	held heldLower
+}
+
+// heldLowerSteps is the number of stage steps from the highest gauging to
+// the table's top on which the lower bands of a joined extension are held.
+const heldLowerSteps = 512
+
+// heldLower holds the lower bands of a joined conveyance-slope extension
+// at the highest value they reach below a stage: discharge does not fall
+// as stage rises, so a lower limit at one stage bounds every stage above
+// it, and the widening of the bands (ConveyanceSlope.At) may not pull the
+// lower limit down. p and t are the running maxima of the parametric and
+// total lower limits at from + i·step.
+type heldLower struct {
+	from, step float64
+	p, t       []float64
+}
+
+// newHeldLower lays out the running maxima of the lower limits of the
+// extension e on heldLowerSteps steps from the join to top.
+func newHeldLower(e *ConveyanceSlope, c reference, top float64) heldLower {
+	j := e.Join
+	if j == nil || !(top > j.Stage) {
+		return heldLower{}
+	}
+	l := heldLower{from: j.Stage, step: (top - j.Stage) / heldLowerSteps}
+	pMax, tMax := math.Inf(-1), math.Inf(-1)
+	for i := 0; i <= heldLowerSteps; i++ {
+		h := l.from + float64(i)*l.step
+		if _, k, err := c.at(h); err == nil {
+			_, pLo, _, tLo, _ := e.At(h, k)
+			pMax, tMax = math.Max(pMax, pLo), math.Max(tMax, tLo)
+		}
+		l.p, l.t = append(l.p, pMax), append(l.t, tMax)
+	}
+	return l
+}
+
+// at returns the lower limits p and t at gauge height h held at their
+// running maxima below h.
+func (l heldLower) at(h, p, t float64) (float64, float64) {
+	if len(l.p) == 0 || !(h > l.from) {
+		return p, t
+	}
+	i := min(int((h-l.from)/l.step), len(l.p)-1)
+	return math.Max(p, l.p[i]), math.Max(t, l.t[i])
 }
 
 // Table lays out the fitted rating as a table from the first offset, with
@@ -109,8 +155,11 @@ type ControlTable struct {
 // Between the gaugings and below them the rows are the fitted rating;
 // above the highest gauging, a least-squares fit with a section follows
 // the conveyance-slope extension (FitConveyanceSlope, every gauging of the
-// upper range), a Bayesian fit or a fit without a section carries the
-// rating on (the Bayesian band then widens as the prior allows). Rows above
+// upper range) joined to the fitted rating at the highest gauging
+// (ConveyanceSlope.Joined: the rating and its bands are continuous there,
+// the lower bands held where they would fall), a Bayesian fit or a fit
+// without a section carries the rating on (the Bayesian band then widens
+// as the prior allows). Rows above
 // the gaugings give their discharge as a multiple of the largest gauged
 // one, with a warning past ExtrapolationWarnMultiple. A To above the
 // section's lower end is ErrBeyondSection.
@@ -148,6 +197,9 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	if f.Method == LeastSquares && c.ok() && top > f.HighStage {
 		h, q, w := upperGaugings(f.d, f.Rating, opt.ExtensionGaugings)
 		ext, err := fitConveyanceSlope(c, h, q, w)
+		if err == nil {
+			ext, err = t.join(ext)
+		}
 		if err != nil {
 			t.Warnings = append(t.Warnings, fmt.Sprintf("%v: the fitted rating is carried above the gaugings instead", err))
 		} else {
@@ -161,6 +213,9 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	t.BandNote = t.bandNote()
 	if top > f.HighStage {
 		t.AboveNote = t.aboveNote()
+	}
+	if t.Extension != nil {
+		t.held = newHeldLower(t.Extension, c, top)
 	}
 	stages, err := tableStages(lo, top, opt.Step, []float64{f.LowStage, f.HighStage})
 	if err != nil {
@@ -189,14 +244,34 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	return t, nil
 }
 
+// join ties the conveyance-slope extension to the fitted rating at the
+// highest gauging (ConveyanceSlope.Joined). No conveyance there is
+// ErrExtension.
+func (t *ControlTable) join(e ConveyanceSlope) (ConveyanceSlope, error) {
+	f := t.fit
+	h := f.HighStage
+	_, k, err := t.hyd.at(h)
+	if err != nil {
+		return e, err
+	}
+	q := f.Rating.Discharge(h)
+	if !(k > 0) || !(q > 0) {
+		return e, fmt.Errorf("%w: no conveyance or fitted discharge at the highest gauging (%s)", ErrExtension, gh(h))
+	}
+	pLo, pHi, tLo, tHi := f.Band(h)
+	return e.Joined(h, q, k, 0.5*math.Log(pHi/pLo), 0.5*math.Log(tHi/tLo)), nil
+}
+
 // bandNote says what the bands of the table are.
 func (t *ControlTable) bandNote() string {
 	if t.Method == Bayesian {
 		return "parametric: 2.5 and 97.5 % quantiles of the rating over the posterior draws; total: the same with the remnant error added (the uncertainty of the rated discharge, not of a gauging)"
 	}
 	note := "parametric: 95 % band of the mean relation (delta method); total: 95 % prediction band of a single discharge (adds the standard error of estimate)"
-	if t.Extension != nil {
-		note += "; above the highest gauging, the same bands of the conveyance-slope extension (from the standard errors and the scatter of ln S)"
+	if e := t.Extension; e != nil && e.Level {
+		note += "; above the highest gauging, the fitted rating's bands at the join, kept at their width in ln Q along the conveyance-slope extension (S level: no allowance for S changing above the gaugings)"
+	} else if e != nil {
+		note += "; above the highest gauging, the fitted rating's bands at the join, widening along the conveyance-slope extension by the standard error of the trend of ln S"
 	}
 	return note
 }
@@ -210,15 +285,12 @@ func (t *ControlTable) extensionWarnings() []string {
 		out = append(out, fmt.Sprintf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
 			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))
 	}
-	if t.Extension != nil && t.hyd.ok() {
-		if _, k, err := t.hyd.at(f.HighStage); err == nil {
-			q, _, _, _, _ := t.Extension.At(f.HighStage, k)
-			fit := f.Rating.Discharge(f.HighStage)
-			_, _, tLo, tHi := f.Band(f.HighStage)
-			if q < tLo || q > tHi {
-				out = append(out, fmt.Sprintf("at the highest gauging (%g %s) the conveyance-slope extension gives %.4g %s and the fitted rating %.4g %s, outside its prediction band: the table steps there",
-					f.HighStage, f.Units.Length(), q, f.Units.Discharge(), fit, f.Units.Discharge()))
-			}
+	if e := t.Extension; e != nil && e.Join != nil {
+		j := e.Join
+		q := j.Conveyance * math.Exp(0.5*j.GaugedLogSlope)
+		if _, _, tLo, tHi := f.Band(j.Stage); q < tLo || q > tHi {
+			out = append(out, fmt.Sprintf("at the highest gauging (%s %s) the upper gaugings' own slope S would give %.4g %s against the fitted rating's %.4g %s, outside its prediction band: the extension is tied to the fitted rating there; check the fit's top control and the section",
+				gh(j.Stage), f.Units.Length(), q, f.Units.Discharge(), j.Discharge, f.Units.Discharge()))
 		}
 	}
 	prev := 0.0
@@ -238,19 +310,26 @@ func (t *ControlTable) aboveNote() string {
 	u := f.Units
 	head := fmt.Sprintf("above the highest gauging (%g %s, %.4g %s) ", f.HighStage, u.Length(), f.MaxDischarge, u.Discharge())
 	if e := t.Extension; e != nil {
-		how := fmt.Sprintf("S levels off (no significant trend with stage, p = %.2g)", e.TrendP)
+		how := fmt.Sprintf("levels off (no significant trend, p = %.2g)", e.TrendP)
 		if math.IsNaN(e.TrendP) {
-			how = "S is constant"
+			how = "is constant"
 		}
 		if !e.Level {
-			how = fmt.Sprintf("ln S follows a straight line in stage (trend %.3g per %s, p = %.2g)", e.Trend, u.Length(), e.TrendP)
+			how = fmt.Sprintf("has a trend in ln S of %.3g per %s (p = %.2g)", e.Trend, u.Length(), e.TrendP)
 		}
 		ref := "the section's conveyance K"
 		if t.hyd.tab != nil {
 			ref = "the hydraulic rating table's discharge in place of K·√S₀"
 		}
-		return head + fmt.Sprintf("the table follows the conveyance-slope extension Q = K·√S(h) on %s: S = (Q/K)² of the %d highest gaugings, where %s (Kennedy, 1984)",
+		return head + fmt.Sprintf("the conveyance-slope extension Q = K·√S(h) on %s, from the fitted rating's S = (Q/K)² there; S of the %d highest gaugings %s (Kennedy, 1984)",
 			ref, len(e.Points), how)
+	}
+	if t.Method == Bayesian && t.topPriorWeak() {
+		src := "weak priors"
+		if ps := f.Posterior.PriorSources; len(ps) > 0 && ps[len(ps)-1] != "" {
+			src = ps[len(ps)-1]
+		}
+		return head + fmt.Sprintf("the table carries the top control's power law on with no hydraulic basis (%s, none from a survey); its bands are those of the posterior carried on", src)
 	}
 	if t.Method == Bayesian {
 		return head + "the table carries the fitted controls on; its bands are those of the posterior, which there rests on the top control's prior as the gaugings pull it"
@@ -263,10 +342,23 @@ func (t *ControlTable) aboveWhat() string {
 	switch {
 	case t.Extension != nil:
 		return "conveyance-slope extension"
+	case t.Method == Bayesian && t.topPriorWeak():
+		return "top control carried on with weak priors, with no hydraulic basis"
 	case t.Method == Bayesian:
 		return "top control's prior as the gaugings pull it"
 	}
 	return "top control carried on"
+}
+
+// topPriorWeak reports a Bayesian fit whose top control's priors of ln A
+// and C are the weak defaults (neither from a survey nor given): above
+// the gaugings nothing hydraulic holds it.
+func (t *ControlTable) topPriorWeak() bool {
+	p := t.fit.Posterior
+	if p == nil || len(p.informative) == 0 {
+		return false
+	}
+	return !p.informative[len(p.informative)-1]
 }
 
 // tableStages lays out round stages from lo to top in step (default a
@@ -336,6 +428,7 @@ func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	case h > f.HighStage && t.Extension != nil:
 		r.Basis = ConveyanceSlopeAbove
 		r.Discharge, r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = t.Extension.At(h, k)
+		r.ParametricLower, r.TotalLower = t.held.at(h, r.ParametricLower, r.TotalLower)
 	case !bands:
 		switch {
 		case h > f.HighStage:

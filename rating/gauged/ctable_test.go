@@ -35,9 +35,11 @@ func gaugeTruth(t testing.TB, c rating.HydraulicCurve, stages []float64, rng *ra
 // Least squares with a section: above the highest gauging the table
 // follows the conveyance-slope extension. With gaugings taken from a
 // Manning rating of n = 0.030 and a survey with n = 0.036, every gauging's
-// effective slope is S·(0.036/0.030)² exactly, so the extension K·√S
-// gives the true rating back (closed form: Q = K_true·√S = K_survey·√S_eff,
-// Chow, 1959, eq. 6-9).
+// effective slope is S·(0.036/0.030)² exactly, so S is level and the
+// extension, joined to the fitted rating at the highest gauging h_j, is
+// Q̂(h_j)·K(h)/K(h_j) = Q̂(h_j)·Q_true(h)/Q_true(h_j) (closed form: K_true
+// and K_survey differ by the factor of n alone, Chow, 1959, eq. 6-9),
+// within the fit's error at h_j of the true rating.
 func TestControlTableConveyanceSlope(t *testing.T) {
 	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.030, 0.001)
 	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.036, 0.001)
@@ -59,15 +61,21 @@ func TestControlTableConveyanceSlope(t *testing.T) {
 			t.Errorf("stage %g: effective slope %g, want %g", p.Stage, p.Slope, wantS)
 		}
 	}
-	const tol = 1e-9 // round-off
+	const tol = 1e-9    // round-off
+	const fitErr = 0.01 // a power law on a trapezoid's Manning rating
+	qTop, _ := truth.Discharge(f.HighStage)
 	above := 0
 	for _, r := range tab.Rows {
 		switch {
 		case r.Stage > f.HighStage:
 			above++
 			q, _ := truth.Discharge(r.Stage)
-			if r.Basis != gauged.ConveyanceSlopeAbove || relErr(r.Discharge, q) > tol || relErr(r.Multiple, r.Discharge/f.MaxDischarge) > tol {
-				t.Errorf("stage %g: %v %g (truth %g), multiple %g", r.Stage, r.Basis, r.Discharge, q, r.Multiple)
+			want := f.Rating.Discharge(f.HighStage) * q / qTop
+			if r.Basis != gauged.ConveyanceSlopeAbove || relErr(r.Discharge, want) > tol || relErr(r.Multiple, r.Discharge/f.MaxDischarge) > tol {
+				t.Errorf("stage %g: %v %g (want %g), multiple %g", r.Stage, r.Basis, r.Discharge, want, r.Multiple)
+			}
+			if relErr(r.Discharge, q) > fitErr {
+				t.Errorf("stage %g: %g, truth %g", r.Stage, r.Discharge, q)
 			}
 		case r.Stage < f.LowStage:
 			if r.Basis != gauged.BelowGaugings || !r.Extrapolated() || !math.IsNaN(r.Multiple) {
@@ -212,5 +220,49 @@ func TestSelection(t *testing.T) {
 	}
 	if !hasWarning(f.Warnings, "no gauging at 2030-01-01") {
 		t.Errorf("warnings %q", f.Warnings)
+	}
+}
+
+// What a Bayesian table says of its rows above the gaugings follows the
+// top control's priors: weak ones (no survey) carry the power law on with
+// no hydraulic basis, as least squares without a section does; priors
+// from the survey hold it there, pulled by the gaugings. The note, and
+// the warning past ExtrapolationWarnMultiple, say so.
+func TestControlTableBayesAboveNote(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	survey := built(t, "trapezoid:bottom=10,side=2,height=5", 0.040, 0.0012)
+	gs := gaugeTruth(t, truth, linspace(0.3, 1.5, 12), rand.New(rand.NewPCG(9, 9)))
+	for _, tc := range []struct {
+		name      string
+		hyd       *rating.HydraulicCurve
+		want, not string
+	}{
+		{"weak priors", nil, "no hydraulic basis", "as the gaugings pull it"},
+		{"survey priors", &survey, "as the gaugings pull it", "no hydraulic basis"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			f, err := gauged.FitBayes(gs, gauged.BayesOptions{
+				ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
+				Hydraulic:      tc.hyd, Chains: 2, Draws: 300, Seed: 2,
+			})
+			if err != nil {
+				t.Fatal(err)
+			}
+			tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: tc.hyd, To: 3.5, ShowUnconverged: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			warn := ""
+			for _, w := range tab.Warnings {
+				if strings.Contains(w, "times the largest gauged discharge") {
+					warn = w
+				}
+			}
+			for what, s := range map[string]string{"note": tab.AboveNote, "warning": warn} {
+				if !strings.Contains(s, tc.want) || strings.Contains(s, tc.not) {
+					t.Errorf("%s %q: want %q, not %q", what, s, tc.want, tc.not)
+				}
+			}
+		})
 	}
 }

@@ -11,8 +11,9 @@ import (
 // metre and a half of a trapezoidal channel surveyed with n a little
 // high: the gaugings depart from the survey's hydraulic rating, least
 // squares fits one control, and the table follows the conveyance-slope
-// extension to the section's top with both bands on every row and the
-// multiple of the largest gauging above it.
+// extension, joined to the fitted rating at the highest gauging, to the
+// section's top with both bands on every row and the multiple of the
+// largest gauging above it.
 func ExampleAnalyze() {
 	shape := "trapezoid:bottom=10,side=2,height=3"
 	truth := section(shape, 0.035, 0.001)
@@ -45,6 +46,6 @@ func ExampleAnalyze() {
 	// lsq fit: A = 9.28, B = -0.020 m, C = 1.772, standard error 3.0 %
 	// 1.00 m:  9.6 m3/s (truth  9.6), total band  8.9 to 10.4 (fit)
 	// 1.47 m: 18.8 m3/s (truth 18.8), total band 17.3 to 20.5 (fit)
-	// 2.00 m: 32.7 m3/s (truth 32.8), total band 29.9 to 35.8 (conveyance-slope), 1.73 × the largest gauging
-	// 3.00 m: 69.7 m3/s (truth 70.0), total band 63.7 to 76.3 (conveyance-slope), 3.70 × the largest gauging
+	// 2.00 m: 32.8 m3/s (truth 32.8), total band 30.2 to 35.6 (conveyance-slope), 1.74 × the largest gauging
+	// 3.00 m: 69.9 m3/s (truth 70.0), total band 64.3 to 76.0 (conveyance-slope), 3.71 × the largest gauging
 }

@@ -33,7 +33,7 @@ type SlopePoint struct {
 }
 
 // ConveyanceSlope is the extension of a rating above the gaugings by the
-// slope-conveyance method: every gauging in the upper range gives an
+// conveyance-slope method: every gauging in the upper range gives an
 // effective slope S_i = (Q_i/K(h_i))², ln S is fitted against stage by
 // weighted least squares (a straight line, or a constant when the trend is
 // not significant) and extended, and
@@ -43,6 +43,20 @@ type SlopePoint struct {
 // Because S is fitted to several gaugings, the extension does not rest on
 // the top gauging alone; since K carries the survey's n, S absorbs the
 // error of n as well as the friction slope.
+//
+// Joined to a fitted rating (Join, as a ControlTable does), the S curve is
+// drawn through the fitted rating's own S at the highest gauging, h_j,
+// and keeps the fitted trend of ln S:
+//
+//	ln S(h) = 2·ln(Q̂(h_j)/K(h_j)) + Trend·(h − h_j),
+//	Q(h) = Q̂(h_j)·(K(h)/K(h_j))·exp(½·Trend·(h − h_j)),
+//
+// which with S level is Q̂(h_j)·K(h)/K(h_j): the rating is continuous at
+// the join. Kennedy (1984) draws the S curve through the gaugings' S
+// values and carries it up, the extended rating meeting the rating drawn
+// through the same gaugings; taking S at the join from the fitted rating
+// is that curve passing through the rating where the gaugings end, not a
+// mean of them beside it (which would step the table at the join).
 type ConveyanceSlope struct {
 	// Points are the gaugings used, ascending in stage.
 	Points []SlopePoint
@@ -50,7 +64,8 @@ type ConveyanceSlope struct {
 	Level bool
 	// LogSlope and Trend describe ln S = LogSlope + Trend·(h − Centre)
 	// (Trend per length unit; Centre the weighted mean stage of the
-	// points); LogSlopeSE and TrendSE are their standard errors.
+	// points); LogSlopeSE and TrendSE are their standard errors (TrendSE
+	// NaN when S is level).
 	LogSlope, Trend, Centre float64
 	LogSlopeSE, TrendSE     float64
 	// TrendP is the two-sided p-value of the t test of the trend (NaN
@@ -59,8 +74,45 @@ type ConveyanceSlope struct {
 	TrendP float64
 	// ScatterLog is the weighted standard deviation of ln S_i about the fit.
 	ScatterLog float64
+	// Join is where the extension meets the fitted rating (nil: not
+	// joined, the gaugings' own S line is carried up).
+	Join *ConveyanceJoin
 
 	tq float64 // Student quantile of the bands
+}
+
+// ConveyanceJoin is where a conveyance-slope extension meets the fitted
+// rating: at the highest gauging.
+type ConveyanceJoin struct {
+	// Stage is the highest gauging's gauge height (length unit);
+	// Discharge the fitted rating's discharge there and Conveyance the
+	// section's conveyance there (discharge unit).
+	Stage, Discharge, Conveyance float64
+	// LogSlope is ln S at the join, 2·ln(Discharge/Conveyance): the slope
+	// the fitted rating implies there (dimensionless).
+	LogSlope float64
+	// ParametricHalf and TotalHalf are the half-widths in ln Q of the
+	// fitted rating's parametric and total 95 % bands at the join.
+	ParametricHalf, TotalHalf float64
+	// GaugedLogSlope is ln S of the gaugings' own line at the join, for
+	// comparison with LogSlope.
+	GaugedLogSlope float64
+}
+
+// Joined returns the extension joined to a fitted rating at gauge height
+// h (the highest gauging), where the rating gives discharge q with the
+// parametric and total half-widths pHalf and tHalf in ln Q and the
+// section has conveyance k (see ConveyanceSlope). q and k must be > 0.
+//
+// References:
+//
+//	Kennedy, E. J. (1984). Discharge ratings at gaging stations. USGS
+//	TWRI 3-A10 (the conveyance-slope method: S curve drawn through the
+//	gaugings' S and carried up, Q = K·√S; cited from memory).
+func (s ConveyanceSlope) Joined(h, q, k, pHalf, tHalf float64) ConveyanceSlope {
+	s.Join = &ConveyanceJoin{Stage: h, Discharge: q, Conveyance: k, LogSlope: 2 * math.Log(q/k),
+		ParametricHalf: pHalf, TotalHalf: tHalf, GaugedLogSlope: s.gaugedLogSlopeAt(h)}
+	return s
 }
 
 // ErrExtension is returned when the conveyance-slope extension cannot be made.
@@ -197,29 +249,60 @@ func weightedLine(x, y, w []float64) lineFit {
 	return l
 }
 
-// LogSlopeAt is the fitted ln S at gauge height h.
+// LogSlopeAt is the fitted ln S at gauge height h: through the join when
+// the extension is joined, else the gaugings' own line.
 func (s ConveyanceSlope) LogSlopeAt(h float64) float64 {
+	if j := s.Join; j != nil {
+		return j.LogSlope + s.Trend*(h-j.Stage)
+	}
+	return s.gaugedLogSlopeAt(h)
+}
+
+// gaugedLogSlopeAt is the gaugings' own ln S line at gauge height h.
+func (s ConveyanceSlope) gaugedLogSlopeAt(h float64) float64 {
 	return s.LogSlope + s.Trend*(h-s.Centre)
 }
 
 // At returns the extension at gauge height h with conveyance k: the
-// discharge K·√S(h), the FitBandLevel band of the fitted relation (from
-// the standard errors of ln S) and the prediction band (adding the scatter
-// of ln S), each halved in ln Q since Q ∝ √S:
+// discharge K·√S(h) with its FitBandLevel parametric and prediction
+// (total) bands, in ln Q since Q ∝ √S:
 //
-//	ln Q = ln K + ½·ln S(h),   half-width t·½·√(SE²(h) [+ s²]).
+//	ln Q = ln K + ½·ln S(h).
+//
+// Not joined, the bands are those of the fitted line of ln S (its
+// standard errors, the prediction band adding the scatter of ln S),
+// half-width t·½·√(SE²(h) [+ s²]). Joined (see Joined), they start from
+// the fitted rating's bands at the join, so the table is continuous
+// there. With S level the extension's one estimate is the fitted
+// discharge at the join, so the bands keep their width in ln Q from
+// there (they hold no allowance for S changing above the gaugings); with
+// a trend they widen with the distance above the join by the standard
+// error of the trend:
+//
+//	half-width √(w_j² + (t·½·(h − h_j)·SE(trend))²),
+//
+// w_j the fitted rating's parametric or total half-width at the join.
+// A k that is not > 0 gives zero discharge and NaN bands.
 func (s ConveyanceSlope) At(h, k float64) (q, pLo, pHi, tLo, tHi float64) {
 	if !(k > 0) {
 		return 0, math.NaN(), math.NaN(), math.NaN(), math.NaN()
 	}
-	ls := s.LogSlopeAt(h)
-	v := s.LogSlopeSE * s.LogSlopeSE
-	if !s.Level {
-		v += (h - s.Centre) * (h - s.Centre) * s.TrendSE * s.TrendSE
+	lq := math.Log(k) + 0.5*s.LogSlopeAt(h)
+	var hp, ht float64
+	if j := s.Join; j != nil {
+		grow := 0.0
+		if se := s.TrendSE; !s.Level && se > 0 && h > j.Stage {
+			grow = s.tq * 0.5 * (h - j.Stage) * se
+		}
+		hp, ht = math.Hypot(j.ParametricHalf, grow), math.Hypot(j.TotalHalf, grow)
+	} else {
+		v := s.LogSlopeSE * s.LogSlopeSE
+		if !s.Level {
+			v += (h - s.Centre) * (h - s.Centre) * s.TrendSE * s.TrendSE
+		}
+		hp = s.tq * 0.5 * math.Sqrt(v)
+		ht = s.tq * 0.5 * math.Sqrt(v+s.ScatterLog*s.ScatterLog)
 	}
-	lq := math.Log(k) + 0.5*ls
-	hp := s.tq * 0.5 * math.Sqrt(v)
-	ht := s.tq * 0.5 * math.Sqrt(v+s.ScatterLog*s.ScatterLog)
 	return math.Exp(lq), math.Exp(lq - hp), math.Exp(lq + hp), math.Exp(lq - ht), math.Exp(lq + ht)
 }
 

@@ -145,6 +145,9 @@ type ControlFit struct {
 	// rating's fitted parameters (Bayesian: at the posterior mode; NaN
 	// when n ≤ p); StandardErrorPercent is 100·sinh(s).
 	StandardErrorLog, StandardErrorPercent float64
+	// StandardErrorDF is the degrees of freedom n − p of s (≤ 0 when s is
+	// not defined; p excludes a Bayesian fit's remnant error).
+	StandardErrorDF int
 	// N is the number of gaugings fitted, Params the number of parameters
 	// moved by the fit.
 	N, Params int
@@ -757,6 +760,7 @@ func (f *ControlFit) finishLSQ(ssr float64) {
 	s2 := ssr / float64(df)
 	f.StandardErrorLog = math.Sqrt(s2)
 	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
+	f.StandardErrorDF = df
 	f.tq = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(df)}.Quantile(0.5 + FitBandLevel/2)
 	r, _ := f.m.rating(f.m.full(f.x))
 	f.Rating = r

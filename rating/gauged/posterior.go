@@ -52,8 +52,9 @@ type Posterior struct {
 	// PriorSources says, per control, where its prior came from.
 	PriorSources []string
 
-	prior    Rating // the rating of the prior means (see ControlFit.PriorRating)
-	hasPrior bool
+	prior       Rating // the rating of the prior means (see ControlFit.PriorRating)
+	hasPrior    bool
+	informative []bool // per control, priors of ln A and C from the survey or given
 
 	dim   int
 	draws []chainResult
@@ -79,6 +80,7 @@ func (b *bayesProblem) posterior(res []chainResult, modes []mode) *Posterior {
 		ModeLogPosterior: modes[0].lp, dim: dim, draws: res, RHatMax: math.Inf(-1), ESSMin: math.Inf(1)}
 	p.Likelihood = b.likelihoodText()
 	p.PriorSources = append([]string(nil), b.sources...)
+	p.informative = append([]bool(nil), b.informative...)
 	p.prior, p.hasPrior = b.priorRating()
 	for _, c := range res {
 		p.ChainAcceptance = append(p.ChainAcceptance, c.acceptance)

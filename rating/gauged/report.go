@@ -1,6 +1,7 @@
 package gauged
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
@@ -14,8 +15,9 @@ import (
 // Options configure a gaugings report. The zero value fits one control of
 // unknown kind by least squares, with its offset fitted and no section.
 type Options struct {
-	// Site names the site or section in reports.
-	Site string
+	// Site names the gaugings in reports (their site, or their file);
+	// Section names the section of Hydraulic ("" without, or unnamed).
+	Site, Section string
 	// Units is the unit system of stages and discharges.
 	Units rating.Units
 	// Hydraulic is the section's hydraulic rating at gauge heights (its
@@ -111,11 +113,12 @@ type MoreControlsTest struct {
 // curve, for text, JSON, CSV, workbook and plot writers alike. Fields that
 // do not apply are nil.
 type Report struct {
-	// Site, Units and Datum (elevation of the gauge's zero in the survey's
-	// datum, length unit; NaN without a section) describe the data.
-	Site  string
-	Units rating.Units
-	Datum float64
+	// Site, Section (Options.Site and Options.Section), Units and Datum
+	// (elevation of the gauge's zero in the survey's datum, length unit;
+	// NaN without a section) describe the data.
+	Site, Section string
+	Units         rating.Units
+	Datum         float64
 	// DatumGiven is Options.DatumGiven.
 	DatumGiven bool
 	// Slope is the friction slope of the hydraulic rating (dimensionless;
@@ -242,7 +245,7 @@ var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's
 func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	opt.Controls.Selection.UTCOffset = opt.UTCOffset
 	ref := referenceOf(opt.Hydraulic, opt.HydraulicTable)
-	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
+	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Section: opt.Section, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
 		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN(), DatumGiven: opt.DatumGiven, UTCOffset: opt.UTCOffset}
 	if !ref.ok() && (opt.CompareOnly || opt.ZeroFlowControl) {
 		return nil, fmt.Errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
@@ -315,8 +318,8 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 			return err
 		}
 		r.HydraulicSource = "section"
-		if opt.Site != "" {
-			r.HydraulicSource += " " + opt.Site
+		if name := cmp.Or(opt.Section, opt.Site); name != "" {
+			r.HydraulicSource += " " + name
 		}
 		cmp, err := Compare(gs, *c)
 		if err != nil {

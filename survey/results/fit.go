@@ -284,6 +284,13 @@ type jsonConveyance struct {
 	Centre     Float `json:"centre_stage"`
 	TrendP     Float `json:"trend_p"`
 	ScatterLog Float `json:"scatter_log"`
+	// The join with the fitted rating at the highest gauging: ln S there
+	// is join_log_slope and above it ln S = join_log_slope + trend·(h −
+	// join_stage) (null when not joined).
+	JoinStage      Float `json:"join_stage"`
+	JoinDischarge  Float `json:"join_discharge"`
+	JoinConveyance Float `json:"join_conveyance"`
+	JoinLogSlope   Float `json:"join_log_slope"`
 }
 
 type jsonControl struct {
@@ -331,6 +338,7 @@ type jsonFitReport struct {
 	Warnings      []string            `json:"warnings"`
 	Caution       string              `json:"caution"`
 	SiteMetadata  *jsonSite           `json:"site_metadata"`
+	Section       string              `json:"section"`
 }
 
 // WriteFitJSON writes a gaugings report as one JSON object:
@@ -343,7 +351,8 @@ type jsonFitReport struct {
 //	 "floodplain_added",
 //	 "selection":{...},"band_note","bands_withheld","more_controls":{...},
 //	 "relation_tests":{...},"johnson":{...},"posterior":{...},
-//	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...}}
+//	 "prior_rating":[...],"warnings":[...],"caution","site_metadata":{...},
+//	 "section"}
 //
 // zero_flow has fixed, source, stage and standard_error; calibration
 // (with a section, else null) channel_only, factor, standard_error_percent
@@ -360,12 +369,14 @@ type jsonFitReport struct {
 // the parametric band, as in earlier versions) and gauged_multiple;
 // posterior (Bayesian only, else null) parameters[] with name, mean, sd,
 // p2_5, p50, p97_5, prior_mean, prior_sd, and rhat_max, ess_min,
-// acceptance. site is the name the report goes by (the section's or the
-// gaugings file's); site_metadata what is known of the site (name, id,
-// surveyed, datum, crew; null when nothing). Stages are gauge heights.
+// acceptance. site is the name the report goes by (the gaugings file's;
+// before this version, with a section, the section's); section the
+// section's name ("" without); site_metadata what is known of the site
+// (name, id, surveyed, datum, crew; null when nothing). Stages are gauge
+// heights.
 // Parts that do not apply are null or empty; undefined numbers are null.
 func WriteFitJSON(w io.Writer, r *gauged.Report) error {
-	out := jsonFitReport{Site: r.Site, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
+	out := jsonFitReport{Site: r.Site, Section: r.Section, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
 		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: nonNil(r.Warnings), Caution: rating.Caution,
 		Convention: gauged.UncertaintyConvention(), HydSource: r.HydraulicSource, BankStage: Float(r.BankStage), Floodplain: r.FloodplainAdded,
@@ -494,8 +505,13 @@ func jsonExtrapolationOf(r *gauged.Report, t *gauged.ControlTable) *jsonExtrapol
 	e := &jsonExtrapolation{ScaleFactor: Float(math.NaN()), ScaleStage: Float(r.Fit.HighStage), Note: t.AboveNote,
 		LargestGauged: Float(t.MaxDischarge), MaxMultiple: Float(t.MaxMultiple), WarnMultiple: Float(gauged.ExtrapolationWarnMultiple)}
 	if x := t.Extension; x != nil {
+		nan := Float(math.NaN())
 		e.ConveyanceSlope = &jsonConveyance{len(x.Points), x.Level, Float(x.LogSlope), Float(x.LogSlopeSE), Float(x.Trend), Float(x.TrendSE),
-			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog)}
+			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog), nan, nan, nan, nan}
+		if j := x.Join; j != nil {
+			c := e.ConveyanceSlope
+			c.JoinStage, c.JoinDischarge, c.JoinConveyance, c.JoinLogSlope = Float(j.Stage), Float(j.Discharge), Float(j.Conveyance), Float(j.LogSlope)
+		}
 	}
 	return e
 }
@@ -533,9 +549,9 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil && r.DatumGiven:
-		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating at slope %g\n", rating.DatumTerm(r.Datum), L, r.Slope)
+		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating%s at slope %g\n", rating.DatumTerm(r.Datum), L, ofSection(r), r.Slope)
 	case r.Hydraulic != nil:
-		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating at slope %g\n", r.Slope)
+		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %g\n", ofSection(r), r.Slope)
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:
@@ -609,7 +625,11 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %.3g to %.3g expected)\n",
 			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), lo, hi)
 		if j > 0 {
-			p("    breakpoint %.4f ± %s %s%s\n", c.From, sig(c.FromSE, 2), L, map[bool]string{true: " (given)", false: ""}[f.BreaksFixed])
+			if f.BreaksFixed || math.IsNaN(c.FromSE) {
+				p("    breakpoint %.4f %s%s\n", c.From, L, map[bool]string{true: " (given)", false: " (no standard error)"}[f.BreaksFixed])
+			} else {
+				p("    breakpoint %.4f ± %s %s\n", c.From, sig(c.FromSE, 2), L)
+			}
 		}
 		if src := priorSource(f, j); src != "" {
 			p("    prior: %s\n", src)
@@ -622,7 +642,7 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	if f.OffsetFixed {
 		p("  first offset held at %.4f %s (%s)\n", f.Controls[0].B, L, f.OffsetSource)
 	}
-	p("  standard error of estimate %s %% (%s in ln Q)\n", fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4))
+	p("  %s\n", standardErrorWords(f))
 	if m := r.MoreControls; m.Made {
 		p("  one more control: F = %.2f, p = %.3g (poor fit below p = %g), standard error %.2f %%\n", m.F, m.P, gauged.PoorFitLevel, m.StandardErrorPercent)
 	}
@@ -633,6 +653,37 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// ofSection names a report's section for "hydraulic rating …" ("" when
+// it has no name).
+func ofSection(r *gauged.Report) string {
+	if r.Section == "" {
+		return ""
+	}
+	return " of section " + r.Section
+}
+
+// standardErrorWords says a fit's weighted standard error of estimate
+// with its degrees of freedom, or why it is not defined (no more gaugings
+// than parameters of the rating).
+func standardErrorWords(f *gauged.ControlFit) string {
+	if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
+		return "weighted standard error of estimate " + standardErrorUndefined(f)
+	}
+	return fmt.Sprintf("weighted standard error of estimate %s %% (%s in ln Q, %d degrees of freedom)",
+		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), f.StandardErrorDF)
+}
+
+// standardErrorUndefined says why a fit's standard error of estimate is
+// not defined.
+func standardErrorUndefined(f *gauged.ControlFit) string {
+	p := f.N - f.StandardErrorDF
+	aside := ""
+	if p != f.Params {
+		aside = ", the remnant error aside"
+	}
+	return fmt.Sprintf("not defined: %d gaugings for %d parameters of the rating%s (it needs more gaugings than parameters)", f.N, p, aside)
 }
 
 // writePosterior writes the posterior summaries.

@@ -135,10 +135,13 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	if name := r.Provenance.Site.Name; name != "" {
 		add("site", name, "")
 		if r.Site != name {
-			add("section or gaugings", r.Site, "")
+			add("gaugings file", r.Site, "")
 		}
 	} else {
 		add("site", r.Site, "")
+	}
+	if r.Section != "" {
+		add("section", r.Section, "")
 	}
 	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
 	add("program", programName(r.Provenance), "")
@@ -216,8 +219,13 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 			add(p+"prior", src, "")
 		}
 	}
-	add("standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
-	add("standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
+	if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
+		add("weighted standard error of estimate", standardErrorUndefined(f), "")
+	} else {
+		add("weighted standard error of estimate", num("0.00", f.StandardErrorPercent), "%")
+		add("weighted standard error of estimate in ln Q", num("0.0000", f.StandardErrorLog), "")
+		add("degrees of freedom of the standard error of estimate", f.StandardErrorDF, "")
+	}
 	if m := r.MoreControls; m.Made {
 		add("one more control", fmt.Sprintf("F = %.2f, p = %.3g (poor fit below p = %g)", m.F, m.P, gauged.PoorFitLevel), "")
 	}

@@ -156,7 +156,7 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 		t.Errorf("last table row %q", l)
 	}
 	// The summary's site is the site's name when one is known, and the
-	// report's own label (a section or the gaugings' file) follows it.
+	// report's own label (the gaugings' file) follows it.
 	if items := summaryItems(t, f); items["site"] != "test|" {
 		t.Errorf("site %q, want the report's label when no site is known", items["site"])
 	}
@@ -166,8 +166,8 @@ func TestWriteFitWorkbookNoSection(t *testing.T) {
 		t.Fatal(err)
 	}
 	items := summaryItems(t, openWritten(t, &buf))
-	if items["site"] != "Tallow Creek at Mill Lane (invented)|" || items["section or gaugings"] != "test|" {
-		t.Errorf("site %q, section or gaugings %q", items["site"], items["section or gaugings"])
+	if items["site"] != "Tallow Creek at Mill Lane (invented)|" || items["gaugings file"] != "test|" || items["section"] != "" {
+		t.Errorf("site %q, gaugings file %q, section %q", items["site"], items["gaugings file"], items["section"])
 	}
 }
 

@@ -58,7 +58,11 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 // datum, the fit, the comparison and the calibration.
 func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
+	if f := r.Fit; f != nil && f.N != len(r.Gaugings) {
+		fmt.Fprintf(bw, "wrote %s: %d gaugings fitted of %d read", path, f.N, len(r.Gaugings))
+	} else {
+		fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
+	}
 	switch {
 	case r.Hydraulic != nil:
 		fmt.Fprintf(bw, "; gauge datum: elevation = gauge height %s %s", rating.DatumTerm(r.Datum), r.Units.Length())
@@ -69,8 +73,12 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	}
 	fmt.Fprintln(bw)
 	if f := r.Fit; f != nil {
-		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), standard error %s %%\n",
-			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, fixed(f.StandardErrorPercent, 1))
+		se := fmt.Sprintf("weighted standard error %s %% (%d degrees of freedom)", fixed(f.StandardErrorPercent, 1), f.StandardErrorDF)
+		if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
+			se = fmt.Sprintf("weighted standard error not defined (%d gaugings for %d parameters of the rating)", f.N, f.N-f.StandardErrorDF)
+		}
+		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), %s\n",
+			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, se)
 	}
 	if r.Fit != nil {
 		fmt.Fprintf(bw, "  uncertainty convention: %s\n", gauged.UncertaintyConvention())
