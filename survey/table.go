@@ -552,8 +552,8 @@ func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	}
 	if _, err := f.scans.scan(sheet); err != nil {
 		pe := &ParseError{File: path, Sheet: sheet, Err: err}
-		if re := (*rowOrderError)(nil); errors.As(err, &re) {
-			pe.Row = re.row
+		if se := (*scanError)(nil); errors.As(err, &se) {
+			pe.Row, pe.Column = se.row, se.col
 		}
 		return sheet, warnings, pe
 	}
