@@ -56,6 +56,10 @@ type SectionRequest struct {
 	// Coordinates say how a coordinate survey becomes stations (ignored
 	// for a survey by station).
 	Coordinates CoordinateOptions
+	// Book, when set, is the workbook Path names, already open: the
+	// sheet is read from it rather than from the file again (see
+	// OpenBook).
+	Book *OpenBook
 }
 
 // Prepared is a section ready for hydraulics.
@@ -92,7 +96,17 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if req.Shape != "" || req.Path == "" {
 		return prepareShape(req)
 	}
-	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates, NGiven: req.N != nil})
+	opt := SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates, NGiven: req.N != nil}
+	var sv Survey
+	var err error
+	if req.Book != nil {
+		var t *Table
+		if t, err = req.Book.ReadTable(req.Sheet); err == nil {
+			sv, err = SectionFromTable(t, opt)
+		}
+	} else {
+		sv, err = ReadSection(req.Path, req.Sheet, opt)
+	}
 	if err != nil {
 		return nil, err
 	}
