@@ -868,6 +868,41 @@ func sheetParts(zr *zip.Reader) (map[string]string, error) {
 	return out, nil
 }
 
+// externalLinks names the other workbooks a workbook links to (a
+// formula such as [1]Sheet1!A1, whose value is saved as it was when the
+// workbook was last saved): one name for each external link part
+// (xl/externalLinks/*.xml), the target of its relationship as written
+// (a path or URL, echoed short), or "a workbook not named" when it has
+// none. Nil when it links to none. Nothing linked is ever opened.
+func externalLinks(zr *zip.Reader) []string {
+	var out []string
+	for _, f := range zr.File {
+		dir, base := path.Split(f.Name)
+		if dir != "xl/externalLinks/" || !strings.HasSuffix(base, ".xml") {
+			continue
+		}
+		var rels struct {
+			Rel []struct {
+				Target string `xml:"Target,attr"`
+				Mode   string `xml:"TargetMode,attr"`
+			} `xml:"Relationship"`
+		}
+		name := "a workbook not named"
+		if err := readXML(zr, dir+"_rels/"+base+".rels", &rels); err == nil {
+			for _, r := range rels.Rel {
+				if r.Mode == "External" && r.Target != "" {
+					name = echo(r.Target)
+					break
+				}
+			}
+		}
+		if !slices.Contains(out, name) {
+			out = append(out, name)
+		}
+	}
+	return out
+}
+
 // readXML decodes the XML part name of a zip archive into v.
 func readXML(zr *zip.Reader, name string, v any) error {
 	f, err := zr.Open(name)

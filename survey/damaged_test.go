@@ -1,10 +1,14 @@
 package survey
 
 import (
+	"archive/zip"
+	"bytes"
 	"errors"
+	"maps"
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -138,6 +142,72 @@ func TestCellOrderAndRowNumberNamed(t *testing.T) {
 		_, err := ReadSection(path, "s", SectionOptions{})
 		if !errors.Is(err, tc.cause) || !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%s: %v, want %q", tc.name, err, tc.want)
+		}
+	}
+}
+
+// addZipEntries returns the zip archive data with the entries added.
+func addZipEntries(t *testing.T, data []byte, entries map[string]string) []byte {
+	t.Helper()
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	zw := zip.NewWriter(&out)
+	for _, zf := range zr.File {
+		if err := zw.Copy(zf); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, name := range slices.Sorted(maps.Keys(entries)) {
+		w, err := zw.Create(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write([]byte(entries[name]))
+	}
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	return out.Bytes()
+}
+
+// A workbook taking a value from another workbook ([1]Sheet1!A1) holds
+// the value as it was last saved: every reader warns of it once, naming
+// the linked file, which is never opened.
+func TestExternalLinkWarned(t *testing.T) {
+	t.Parallel()
+	path := writeBook(t, t.TempDir(), map[string][][]any{
+		"s": {{"station", "elevation", "n"}, {0, 104, 0.04}, {10, 100, 0.04}, {20, 101, 0.04}, {30, 104, 0.05}},
+		"r": {{"time", "stage"}, {"2024-01-01T00:00:00Z", 1.0}, {"2024-01-01T01:00:00Z", 1.1}},
+	}, []string{"s", "r"})
+	data := addZipEntries(t, readFile(t, path), map[string]string{
+		"xl/externalLinks/externalLink1.xml": `<?xml version="1.0"?><externalLink xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><externalBook/></externalLink>`,
+		"xl/externalLinks/_rels/externalLink1.xml.rels": `<?xml version="1.0"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+			`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/externalLinkPath" Target="file:///C:/surveys/upstream.xlsx" TargetMode="External"/></Relationships>`,
+	})
+	if err := os.WriteFile(path, data, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	want := "field.xlsx: the workbook takes values from other workbooks (file:///C:/surveys/upstream.xlsx): they are read as last saved"
+	sv, err := ReadSection(path, "s", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec, err := ReadStageRecord(path, StageRecordOptions{Sheet: "r"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for what, ws := range map[string][]string{"section": sv.Warnings, "stage record": rec.Warnings} {
+		n := 0
+		for _, w := range ws {
+			if strings.Contains(w, want) {
+				n++
+			}
+		}
+		if n != 1 {
+			t.Errorf("%s: warnings %q, want %q once", what, ws, want)
 		}
 	}
 }
