@@ -83,6 +83,10 @@ type Prepared struct {
 	Inputs []string
 	// Warnings are facts about the section a reviewer should see.
 	Warnings []string
+	// Notes are facts of the inputs that are not warnings, each with its
+	// position (how a coordinate survey's stations were made), for the
+	// report's inputs (rating.Provenance.Notes).
+	Notes []string
 }
 
 // Source names the prepared section for messages: its file (and sheet)
@@ -115,6 +119,9 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 		return nil, err
 	}
 	p := &Prepared{Survey: sv, Units: u, Site: sv.Site, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
+	if n := sv.ProjectionNote.String(); n != "" {
+		p.Notes = []string{n}
+	}
 	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
 	sec := sv.Section
 	if req.Banks != nil {
