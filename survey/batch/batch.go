@@ -71,22 +71,56 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 // ListWarn is List, and also returns warnings: hidden sheets of a
 // workbook are passed over, each named in a warning, and a named sheet
 // that is hidden is read with a warning.
+//
+// A CSV file of a folder whose header plainly makes it another kind of
+// table (a reach table, gaugings, a rating table: see survey.SniffCSV) is
+// skipped, and one warning lists them; a file named on its own is rated
+// whatever it holds. A coordinate survey and a survey by station
+// projected from it (its eastings and northings the same) are both rated,
+// with a warning that the section is rated twice.
 func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, error) {
-	var files []string
+	var files, skipped []string
+	sniffs := map[string]survey.Sniff{}
 	for _, a := range args {
 		st, err := os.Stat(a)
 		if err != nil || !st.IsDir() {
 			files = append(files, a) // a missing file fails as its section
+			if !survey.IsWorkbook(a) {
+				if sn, err := survey.SniffCSV(a); err == nil {
+					sniffs[a] = sn
+				}
+			}
 			continue
 		}
 		found, err := surveyFiles(a)
 		if err != nil {
 			return nil, nil, nil, err
 		}
-		files = append(files, found...)
+		kept := 0
+		for _, f := range found {
+			if !survey.IsWorkbook(f) {
+				sn, err := survey.SniffCSV(f)
+				if err == nil && sn.Other != "" {
+					skipped = append(skipped, fmt.Sprintf("%s (%s)", filepath.Base(f), sn.Other))
+					continue
+				}
+				if err == nil {
+					sniffs[f] = sn
+				}
+			}
+			files = append(files, f)
+			kept++
+		}
+		if kept == 0 {
+			return nil, nil, nil, fmt.Errorf("%s: %w (%s)", a, ErrNoSurveys, strings.Join(skipped, ", "))
+		}
 	}
 	var jobs []Job
 	var warnings []string
+	if len(skipped) > 0 {
+		warnings = append(warnings, fmt.Sprintf("skipped %d file(s) that are not surveys: %s", len(skipped), strings.Join(skipped, ", ")))
+	}
+	warnings = append(warnings, twinWarnings(files, sniffs)...)
 	for _, path := range files {
 		js, ws := fileJobs(path, sheet)
 		jobs = append(jobs, js...)
@@ -94,6 +128,44 @@ func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, erro
 	}
 	uniqueNames(jobs, ext)
 	return jobs, files, warnings, nil
+}
+
+// twinWarnings warns of each coordinate survey among files whose points
+// a survey by station among them also gives (projected from it: the
+// first points of the coordinate survey are among the other's): the
+// section would be rated twice.
+func twinWarnings(files []string, sniffs map[string]survey.Sniff) []string {
+	var out []string
+	for _, c := range files {
+		sc, ok := sniffs[c]
+		if !ok || sc.Projected || len(sc.Points) == 0 {
+			continue
+		}
+		for _, p := range files {
+			sp, ok := sniffs[p]
+			if !ok || !sp.Projected || !sharesPoints(sc.Points, sp.Points) {
+				continue
+			}
+			out = append(out, fmt.Sprintf("%s and %s hold one section (%s gives stations projected from the eastings and northings of %s): it is rated twice; leave one of them out",
+				c, p, filepath.Base(p), filepath.Base(c)))
+		}
+	}
+	return out
+}
+
+// sharesPoints reports whether the first points of a (up to three) are
+// all among b's.
+func sharesPoints(a, b [][2]float64) bool {
+	in := map[[2]float64]bool{}
+	for _, p := range b {
+		in[p] = true
+	}
+	for _, p := range a[:min(3, len(a))] {
+		if !in[p] {
+			return false
+		}
+	}
+	return true
 }
 
 // CheckFolders returns the error of the first folder among args that
