@@ -529,8 +529,14 @@ func xmlDamage(f *zip.File) error {
 		if err == io.EOF {
 			return nil
 		}
+		if se := (*xml.SyntaxError)(nil); err != nil && !errors.As(err, &se) {
+			return fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err) // the part cannot be unpacked
+		}
 		if err != nil {
 			where := "before its first row"
+			if done == 0 && open > 0 {
+				where = fmt.Sprintf("in row %d", open)
+			}
 			if done > 0 {
 				where = fmt.Sprintf("after row %d", done)
 			}

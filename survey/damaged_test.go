@@ -4,6 +4,7 @@ import (
 	"archive/zip"
 	"bytes"
 	"errors"
+	"io"
 	"maps"
 	"os"
 	"path/filepath"
@@ -209,5 +210,50 @@ func TestExternalLinkWarned(t *testing.T) {
 		if n != 1 {
 			t.Errorf("%s: warnings %q, want %q once", what, ws, want)
 		}
+	}
+}
+
+// A sheet part that cannot be unpacked (here its checksum is wrong) is a
+// damaged zip (ErrWorkbookZip), not damaged XML, though its XML is cut
+// where the unpacking fails.
+func TestUnpackErrorIsNotXMLDamage(t *testing.T) {
+	t.Parallel()
+	path := writeBook(t, t.TempDir(), map[string][][]any{"s": {{"station", "elevation", "n"}, {0, 104, 0.04}, {10, 100, 0.04}, {20, 104, 0.04}}}, []string{"s"})
+	data := readFile(t, path)
+	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	zw := zip.NewWriter(&out)
+	for _, zf := range zr.File {
+		if zf.Name != "xl/worksheets/sheet1.xml" {
+			if err := zw.Copy(zf); err != nil {
+				t.Fatal(err)
+			}
+			continue
+		}
+		rc, err := zf.Open()
+		if err != nil {
+			t.Fatal(err)
+		}
+		b, _ := io.ReadAll(rc)
+		rc.Close()
+		w, err := zw.CreateRaw(&zip.FileHeader{Name: zf.Name, Method: zip.Store, CRC32: zf.CRC32 ^ 1,
+			CompressedSize64: uint64(len(b)), UncompressedSize64: uint64(len(b))})
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write(b)
+	}
+	if err := zw.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, out.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = ReadSection(path, "s", SectionOptions{})
+	if !errors.Is(err, ErrWorkbookZip) || errors.Is(err, ErrWorkbookDamaged) {
+		t.Errorf("%v, want ErrWorkbookZip alone", err)
 	}
 }
