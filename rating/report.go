@@ -19,6 +19,10 @@ type Provenance struct {
 	Inputs []string
 	// Site is what is known of the site (blank fields unknown).
 	Site Site
+	// Notes are facts of the inputs a reviewer should see that are not
+	// warnings, each with its position (how a coordinate survey's
+	// stations were made from eastings and northings).
+	Notes []string
 }
 
 // Site is what a survey or a command line says of a site: its name and

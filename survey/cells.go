@@ -9,9 +9,11 @@ import (
 	"fmt"
 	"io"
 	"maps"
+	"math"
 	"path"
 	"slices"
 	"sort"
+	"strconv"
 	"strings"
 )
 
@@ -63,7 +65,15 @@ func checkWorkbookZip(r io.ReaderAt, size int64) error {
 	if err != nil {
 		return err
 	}
-	return scanEverySheet(zr, markedStyles(zr))
+	return scanEverySheet(zr, bookFacts{styles: markedStyles(zr), strings: sharedStringCount(zr)})
+}
+
+// bookFacts are what the scan of a sheet needs to know of its workbook:
+// the styles marked by markedStyles, and how many strings the shared
+// string table holds (see sharedStringCount).
+type bookFacts struct {
+	styles  map[int64]cellMark
+	strings int64
 }
 
 // unsavedCells are the cells of a sheet holding a formula with no saved
@@ -165,20 +175,20 @@ func isWorksheetPart(name string) bool {
 	return strings.HasPrefix(name, "xl/worksheets/") && strings.HasSuffix(name, ".xml")
 }
 
-// scanEverySheet scans every sheet of an archive (styles is
-// markedStyles') for the errors of scanSheet: each sheet's part as the
+// scanEverySheet scans every sheet of an archive (with the workbook's
+// facts) for the errors of scanSheet: each sheet's part as the
 // workbook's relationships name it, or, when they cannot be read, every
 // part under xl/worksheets/, and then a sheet with something to tell (a
 // formula with no saved value, a boolean, percent or date cell) is an
 // error too (ErrWorkbookZip), as what it holds cannot be placed.
-func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) error {
+func scanEverySheet(zr *zip.Reader, facts bookFacts) error {
 	names, perr := sheetParts(zr)
 	if perr != nil {
 		for _, f := range zr.File {
 			if !isWorksheetPart(f.Name) {
 				continue
 			}
-			sc, err := scanSheet(f, styles)
+			sc, err := scanSheet(f, facts)
 			if err != nil {
 				return err
 			}
@@ -191,7 +201,7 @@ func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) error {
 	files := partFiles(zr, names)
 	for _, name := range slices.Sorted(maps.Keys(files)) { // the first error the same each run
 		if f := files[name]; f != nil {
-			if _, err := scanSheet(f, styles); err != nil {
+			if _, err := scanSheet(f, facts); err != nil {
 				return err
 			}
 		}
@@ -204,8 +214,8 @@ func scanEverySheet(zr *zip.Reader, styles map[int64]cellMark) error {
 // alone, however large the others are.
 type sheetScanner struct {
 	zr     *zip.Reader
-	styles map[int64]cellMark   // markedStyles', read with the first sheet
-	styled bool                 // styles has been read
+	facts  bookFacts            // the workbook's, read with the first sheet
+	styled bool                 // facts has been read
 	parts  map[string]*zip.File // sheet name to its part, found with the first sheet
 	done   map[string]sheetScan // the sheets scanned, by name
 }
@@ -219,7 +229,8 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 		return sc, nil
 	}
 	if !s.styled {
-		s.styles, s.styled = markedStyles(s.zr), true
+		s.facts = bookFacts{styles: markedStyles(s.zr), strings: sharedStringCount(s.zr)}
+		s.styled = true
 	}
 	if s.parts == nil {
 		if err := s.findParts(); err != nil {
@@ -229,7 +240,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 	var sc sheetScan
 	if f := s.parts[sheet]; f != nil {
 		var err error
-		if sc, err = scanSheet(f, s.styles); err != nil {
+		if sc, err = scanSheet(f, s.facts); err != nil {
 			return sheetScan{}, err
 		}
 	}
@@ -247,7 +258,7 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 func (s *sheetScanner) findParts() error {
 	names, err := sheetParts(s.zr)
 	if err != nil {
-		if err := scanEverySheet(s.zr, s.styles); err != nil {
+		if err := scanEverySheet(s.zr, s.facts); err != nil {
 			return err
 		}
 		s.parts = map[string]*zip.File{}
@@ -313,23 +324,69 @@ func textLike(b []byte) bool {
 // only guess at.
 var ErrRowOrder = errors.New("a sheet's rows are out of order or repeated")
 
-// rowOrderError is an ErrRowOrder of a sheet's scan, with the row (its
-// r attribute) that does not rise, for the ParseError of the sheet.
-type rowOrderError struct {
-	row int
-	err error
+// ErrCellOrder is the cause of a row whose cells are out of order or
+// repeated (a cell reference written twice), which a spreadsheet program
+// never writes: the spreadsheet library would shift the cells to other
+// columns.
+var ErrCellOrder = errors.New("a row's cells are out of order or repeated")
+
+// ErrRowNumber is the cause of a row numbered beyond a sheet's last row.
+var ErrRowNumber = errors.New("a row number beyond the last row of a sheet")
+
+// MaxSheetRows is the number of rows a sheet can hold (ECMA-376 and
+// every spreadsheet program: 2²⁰, from memory).
+const MaxSheetRows = 1 << 20
+
+// ErrSharedString is the cause of a text cell (t="s") whose value is not
+// the index of a string in the workbook's table of shared strings: a
+// whole number from 0 to one less than the strings the table holds. The
+// spreadsheet library reads such a cell as blank, or as another string.
+var ErrSharedString = errors.New("a text cell that refers to no string of the workbook's shared strings (the workbook is damaged)")
+
+// ErrWorkbookDamaged is the cause of a sheet whose XML does not parse to
+// its end (cut short, garbage written into it, an entity it does not
+// define). The spreadsheet library stops reading such a sheet at the
+// damage without saying so, so every row after it would be lost.
+var ErrWorkbookDamaged = errors.New("the sheet's XML is damaged")
+
+// scanError is an error of a sheet's scan at a row (its r attribute) and,
+// when it is a cell's, a column (1-based; 0 for a whole row), for the
+// ParseError of the sheet. Row 0 is no row (the error is the sheet's).
+type scanError struct {
+	row, col int
+	err      error
 }
 
-func (e *rowOrderError) Error() string { return e.err.Error() }
-func (e *rowOrderError) Unwrap() error { return e.err }
+func (e *scanError) Error() string { return e.err.Error() }
+func (e *scanError) Unwrap() error { return e.err }
 
-// scanSheet reads a worksheet's XML as a sequence of tags, without
-// decoding it: the numbers of its rows (their r attributes) must rise
-// strictly (ErrRowOrder, as a *rowOrderError naming the row), and the cells holding a formula (an f element)
-// but no saved value (no v element, or an empty one, <v/> or <v></v>,
-// but for a formula of text, t="str", whose result may be "") are returned, with the boolean cells
-// and the number cells whose style is marked in styles (see markedStyles).
-func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
+// scanSheet checks a worksheet's XML and reads what a reader must know
+// of its cells. The XML must parse to its end (ErrWorkbookDamaged, see
+// xmlDamage). Then it is read as a sequence of tags, without decoding
+// it: the numbers of its rows (their r attributes) must rise strictly
+// (ErrRowOrder) and stay within MaxSheetRows (ErrRowNumber), the cell
+// references of a row must rise strictly (ErrCellOrder), and the value
+// of a text cell (t="s") must be the number of a string of the shared
+// string table (ErrSharedString, see facts.strings); each such error is
+// a *scanError naming its row and cell. The cells holding a formula (an
+// f element) but no saved value (no v element, or an empty one, <v/> or
+// <v></v>, but for a formula of text, t="str", whose result may be "")
+// are returned, with the boolean cells and the number cells whose style
+// is marked in facts.styles (see markedStyles).
+func scanSheet(f *zip.File, facts bookFacts) (sheetScan, error) {
+	// The XML is parsed beside the tag scan, on another core; its error,
+	// the damage, comes first.
+	damage := make(chan error, 1)
+	go func() { damage <- xmlDamage(f) }()
+	out, err := scanTags(f, facts)
+	if derr := <-damage; derr != nil {
+		return sheetScan{}, derr
+	}
+	return out, err
+}
+
+// scanTags is scanSheet's tag scan.
+func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 	var out sheetScan
 	u := &out.unsaved
 	rc, err := f.Open()
@@ -339,7 +396,8 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 	defer rc.Close()
 	sc := tagScanner{br: bufio.NewReaderSize(rc, 64<<10)}
 	var last, row, col int64
-	inCell, formula, value, text := false, false, false, false
+	var lastRef []byte // the reference of the row's last cell, as written
+	inCell, formula, value, text, shared := false, false, false, false, false
 	mark := func(m cellMark) {
 		if out.marks == nil {
 			out.marks = map[cellAt]cellMark{}
@@ -358,20 +416,34 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 		case name == "row" && !tag.end:
 			n := attrNumber(tag.attrs, "r")
 			if n > 0 && n <= last {
-				return out, &rowOrderError{row: int(n), err: fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)}
+				return out, &scanError{row: int(n), err: fmt.Errorf("%w (%s: row %d after row %d)", ErrRowOrder, f.Name, n, last)}
+			}
+			if n > MaxSheetRows {
+				return out, &scanError{row: int(n), err: fmt.Errorf("%w (row %d after row %d; a sheet holds %d rows)", ErrRowNumber, n, last, MaxSheetRows)}
 			}
 			if n > 0 {
 				last, row = n, n
 			} else {
 				row++
 			}
-			col = 0
+			if row > MaxSheetRows {
+				return out, &scanError{row: int(row), err: fmt.Errorf("%w (row %d after row %d; a sheet holds %d rows)", ErrRowNumber, row, last, MaxSheetRows)}
+			}
+			col, lastRef = 0, nil
 		case name == "c" && !tag.end:
 			col++
 			// The column from the cell's reference; the row is its row
 			// element's, as the spreadsheet library places the cell.
-			if c, _, ok := cellReference(attrValue(tag.attrs, "r")); ok {
+			ref := attrValue(tag.attrs, "r")
+			if c, _, ok := cellReference(ref); ok {
+				if c <= col-1 && row > 0 {
+					return out, &scanError{row: int(row), col: int(c), err: fmt.Errorf("%w: the cell %s is written after %s", ErrCellOrder, echo(string(ref)), echo(string(lastRef)))}
+				}
 				col = c
+			}
+			lastRef = append(lastRef[:0], ref...)
+			if lastRef == nil {
+				lastRef = []byte{}
 			}
 			// A cell outside a row is not read, and not told.
 			inCell, formula, value = !tag.self && row > 0, false, false
@@ -379,7 +451,8 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 				break
 			}
 			t := string(attrValue(tag.attrs, "t"))
-			text = t == "str"
+			text, shared = t == "str", t == "s"
+			styles := facts.styles
 			switch {
 			case t == "b":
 				mark(markBoolean)
@@ -403,6 +476,20 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 			}
 			if tag.self {
 				value = value || text
+				if shared {
+					return out, sharedStringError(row, col, "", facts.strings)
+				}
+				break
+			}
+			if shared {
+				v, err := sc.text(maxTagBytes)
+				if err != nil {
+					return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
+				}
+				if !sharedIndex(v, facts.strings) {
+					return out, sharedStringError(row, col, string(v), facts.strings)
+				}
+				value = true
 				break
 			}
 			empty, err := sc.blankText()
@@ -418,6 +505,111 @@ func scanSheet(f *zip.File, styles map[int64]cellMark) (sheetScan, error) {
 				u.count++
 			}
 			inCell = false
+		}
+	}
+}
+
+// xmlDamage parses a worksheet's XML to its end as the spreadsheet
+// library does (encoding/xml, strict), and returns an ErrWorkbookDamaged
+// (a *scanError with no row) saying after which row the XML stops
+// parsing, nil when it parses to its end. The library's row reader stops
+// at the first such error without telling it, so the rows after it
+// would be lost without a word; the tag scan of scanSheet does not parse
+// the XML, so it cannot tell.
+func xmlDamage(f *zip.File) error {
+	rc, err := f.Open()
+	if err != nil {
+		return fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
+	}
+	defer rc.Close()
+	d := xml.NewDecoder(bufio.NewReaderSize(rc, 64<<10))
+	var done, open int64 // the last row ended, the row begun
+	for {
+		tok, err := d.Token()
+		if err == io.EOF {
+			return nil
+		}
+		if se := (*xml.SyntaxError)(nil); err != nil && !errors.As(err, &se) {
+			return fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err) // the part cannot be unpacked
+		}
+		if err != nil {
+			where := "before its first row"
+			if done == 0 && open > 0 {
+				where = fmt.Sprintf("in row %d", open)
+			}
+			if done > 0 {
+				where = fmt.Sprintf("after row %d", done)
+			}
+			return &scanError{err: fmt.Errorf("%w %s (%s: %w)", ErrWorkbookDamaged, where, f.Name, err)}
+		}
+		switch t := tok.(type) {
+		case xml.StartElement:
+			if t.Name.Local == "row" {
+				open++
+				for _, a := range t.Attr {
+					if a.Name.Local == "r" {
+						if n, err := strconv.ParseInt(a.Value, 10, 64); err == nil && n > 0 {
+							open = n
+						}
+					}
+				}
+			}
+		case xml.EndElement:
+			if t.Name.Local == "row" {
+				done = open
+			}
+		}
+	}
+}
+
+// sharedIndex reports whether the text of a text cell's value (t="s") is
+// the index of a string of a shared string table holding count strings:
+// digits alone (white space around them allowed), less than count.
+func sharedIndex(v []byte, count int64) bool {
+	v = bytes.TrimSpace(v)
+	if len(v) == 0 || len(v) > 18 {
+		return false
+	}
+	var n int64
+	for _, c := range v {
+		if c < '0' || c > '9' {
+			return false
+		}
+		n = n*10 + int64(c-'0')
+	}
+	return n < count
+}
+
+// sharedStringError is the ErrSharedString of the cell at row and col
+// whose value is v, in a workbook whose table holds count strings.
+func sharedStringError(row, col int64, v string, count int64) error {
+	what := fmt.Sprintf("its value %q is not a string's number", echo(v))
+	if sharedIndex([]byte(v), math.MaxInt64) {
+		what = fmt.Sprintf("it refers to string %s", strings.TrimSpace(v))
+	}
+	return &scanError{row: int(row), col: int(col), err: fmt.Errorf("%w: %s, and the table holds %d (numbered from 0)", ErrSharedString, what, count)}
+}
+
+// sharedStringCount returns how many strings the shared string table of
+// a workbook holds (its si elements; the count it claims is not trusted),
+// 0 when it has none or it cannot be read. The part is found as the
+// workbook's relationships name it (normally xl/sharedStrings.xml).
+func sharedStringCount(zr *zip.Reader) int64 {
+	name := relatedPart(zr, "/sharedStrings", "xl/sharedStrings.xml")
+	f, err := zr.Open(name)
+	if err != nil {
+		return 0
+	}
+	defer f.Close()
+	sc := tagScanner{br: bufio.NewReaderSize(f, 64<<10)}
+	var n int64
+	for {
+		tag, err := sc.next()
+		if err != nil {
+			return n
+		}
+		if !tag.end && string(tag.name) == "si" {
+			n++
 		}
 	}
 }
@@ -527,6 +719,29 @@ func (s *tagScanner) blankText() (bool, error) {
 			return blank, nil
 		case err != bufio.ErrBufferFull:
 			return false, err
+		}
+	}
+}
+
+// text reads the text after the tag just read, up to the next tag, and
+// returns at most its first limit bytes. The next tag is left to be read.
+func (s *tagScanner) text(limit int) ([]byte, error) {
+	s.buf = s.buf[:0]
+	for {
+		b, err := s.br.ReadSlice('<')
+		if err == nil {
+			b = b[:len(b)-1]
+		}
+		if room := limit - len(s.buf); room > 0 {
+			s.buf = append(s.buf, b[:min(len(b), room)]...)
+		}
+		switch {
+		case err == nil:
+			return s.buf, s.br.UnreadByte()
+		case err == io.EOF:
+			return s.buf, nil
+		case err != bufio.ErrBufferFull:
+			return nil, err
 		}
 	}
 }
@@ -659,6 +874,41 @@ func sheetParts(zr *zip.Reader) (map[string]string, error) {
 	return out, nil
 }
 
+// externalLinks names the other workbooks a workbook links to (a
+// formula such as [1]Sheet1!A1, whose value is saved as it was when the
+// workbook was last saved): one name for each external link part
+// (xl/externalLinks/*.xml), the target of its relationship as written
+// (a path or URL, echoed short), or "a workbook not named" when it has
+// none. Nil when it links to none. Nothing linked is ever opened.
+func externalLinks(zr *zip.Reader) []string {
+	var out []string
+	for _, f := range zr.File {
+		dir, base := path.Split(f.Name)
+		if dir != "xl/externalLinks/" || !strings.HasSuffix(base, ".xml") {
+			continue
+		}
+		var rels struct {
+			Rel []struct {
+				Target string `xml:"Target,attr"`
+				Mode   string `xml:"TargetMode,attr"`
+			} `xml:"Relationship"`
+		}
+		name := "a workbook not named"
+		if err := readXML(zr, dir+"_rels/"+base+".rels", &rels); err == nil {
+			for _, r := range rels.Rel {
+				if r.Mode == "External" && r.Target != "" {
+					name = echo(r.Target)
+					break
+				}
+			}
+		}
+		if !slices.Contains(out, name) {
+			out = append(out, name)
+		}
+	}
+	return out
+}
+
 // readXML decodes the XML part name of a zip archive into v.
 func readXML(zr *zip.Reader, name string, v any) error {
 	f, err := zr.Open(name)
@@ -735,6 +985,12 @@ func dateFormat(code string) bool {
 // stylesPart returns the name of a workbook's styles part, as the
 // workbook's relationships name it (normally xl/styles.xml).
 func stylesPart(zr *zip.Reader) string {
+	return relatedPart(zr, "/styles", "xl/styles.xml")
+}
+
+// relatedPart returns the name of the part the workbook's relationships
+// name with a type ending in kind ("/styles"), def when they name none.
+func relatedPart(zr *zip.Reader, kind, def string) string {
 	var rels struct {
 		Rel []struct {
 			Type   string `xml:"Type,attr"`
@@ -743,7 +999,7 @@ func stylesPart(zr *zip.Reader) string {
 	}
 	if err := readXML(zr, "xl/_rels/workbook.xml.rels", &rels); err == nil {
 		for _, r := range rels.Rel {
-			if strings.HasSuffix(r.Type, "/styles") {
+			if strings.HasSuffix(r.Type, kind) {
 				if strings.HasPrefix(r.Target, "/") {
 					return strings.TrimPrefix(r.Target, "/")
 				}
@@ -751,7 +1007,7 @@ func stylesPart(zr *zip.Reader) string {
 			}
 		}
 	}
-	return "xl/styles.xml"
+	return def
 }
 
 // percentFormat reports whether a number format code shows a number as a

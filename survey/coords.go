@@ -446,9 +446,24 @@ func (r *sectionReader) offsetWarnings(recs []Record, feet bool) {
 		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: the flow direction given puts the point marked %s on the right bank: the left bank was taken from the flow direction; check the pins' names and the azimuth",
 			where(t, t.HeaderRow), MarkLeftPin))
 	}
-	r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf(
-		"%s: stations were projected from eastings and northings onto %s, left bank from %s; the farthest point lies %.3g%s off the line (row %d)%s",
-		where(t, t.HeaderRow), pr.Line, pr.Left, math.Abs(pr.Offsets[worst]), unit, r.sv.Rows[worst], reversedNote(pr.Reversed)))
+	r.sv.ProjectionNote = InputNote{At: where(t, t.HeaderRow), Text: fmt.Sprintf(
+		"stations were projected from eastings and northings onto %s, left bank from %s; the farthest point lies %.3g%s off the line (row %d)%s",
+		pr.Line, pr.Left, math.Abs(pr.Offsets[worst]), unit, r.sv.Rows[worst], reversedNote(pr.Reversed))}
+}
+
+// InputNote is a fact of an input a reviewer should see that is not a
+// warning (how a coordinate survey's stations were made): where it
+// holds (a file, sheet and row) and what it says.
+type InputNote struct {
+	At, Text string
+}
+
+// String is the note with its position: "xs.csv:1: stations were ...".
+func (n InputNote) String() string {
+	if n.Text == "" {
+		return ""
+	}
+	return n.At + ": " + n.Text
 }
 
 func reversedNote(rev bool) string {
@@ -467,8 +482,8 @@ type ProjectionReport struct {
 	Survey Survey
 	// Units is the unit system of the survey's lengths.
 	Units rating.Units
-	// Warnings are the survey's (each point far off the line, the method
-	// used).
+	// Warnings are the survey's (each point far off the line), and last
+	// how it was projected (Survey.ProjectionNote).
 	Warnings []string
 	// Figures are the pictures of the report (a plan of the points and the
 	// line), drawn by the caller.
@@ -498,6 +513,6 @@ func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (Projectio
 	}
 	return ProjectionReport{
 		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site},
-		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
+		Survey:     sv, Units: units, Warnings: append(append([]string(nil), sv.Warnings...), sv.ProjectionNote.String()),
 	}, nil
 }

@@ -248,8 +248,8 @@ func TestCoordinateSurveyOffsetWarning(t *testing.T) {
 	if !strings.Contains(w, "xs.csv:5:1: easting ") || !strings.Contains(w, "the point lies 1.7 m off the section line, more than the tolerance 0.5 m") {
 		t.Errorf("warnings:\n%s", w)
 	}
-	if !strings.Contains(w, "projected from eastings and northings onto "+LineFromPins) {
-		t.Errorf("no projection note:\n%s", w)
+	if n := sv.ProjectionNote; !strings.Contains(n.Text, "projected from eastings and northings onto "+LineFromPins) || n.At != "xs.csv:1" || strings.Contains(w, "projected from") {
+		t.Errorf("projection note %+v, warnings:\n%s: the note is the survey's own, not a warning", n, w)
 	}
 	sv, err = ParseSection(strings.NewReader(text), "xs.csv", SectionOptions{Coordinates: CoordinateOptions{OffsetTolerance: 2}})
 	if err != nil {
@@ -383,11 +383,7 @@ func TestCoordinateSurveyOnTheLine(t *testing.T) {
 			t.Errorf("point %d: station %.12g offset %g, want %g and 0", k, p.Station, sv.Projection.Offsets[k], want)
 		}
 	}
-	found := false
-	for _, w := range sv.Warnings {
-		found = found || strings.Contains(w, "the farthest point lies 0 ft off the line")
-	}
-	if !found {
-		t.Errorf("warnings %q", sv.Warnings)
+	if !strings.Contains(sv.ProjectionNote.Text, "the farthest point lies 0 ft off the line") {
+		t.Errorf("projection note %+v", sv.ProjectionNote)
 	}
 }

@@ -56,6 +56,10 @@ type SectionRequest struct {
 	// Coordinates say how a coordinate survey becomes stations (ignored
 	// for a survey by station).
 	Coordinates CoordinateOptions
+	// Book, when set, is the workbook Path names, already open: the
+	// sheet is read from it rather than from the file again (see
+	// OpenBook).
+	Book *OpenBook
 }
 
 // Prepared is a section ready for hydraulics.
@@ -79,6 +83,10 @@ type Prepared struct {
 	Inputs []string
 	// Warnings are facts about the section a reviewer should see.
 	Warnings []string
+	// Notes are facts of the inputs that are not warnings, each with its
+	// position (how a coordinate survey's stations were made), for the
+	// report's inputs (rating.Provenance.Notes).
+	Notes []string
 }
 
 // Source names the prepared section for messages: its file (and sheet)
@@ -92,7 +100,17 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 	if req.Shape != "" || req.Path == "" {
 		return prepareShape(req)
 	}
-	sv, err := ReadSection(req.Path, req.Sheet, SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates, NGiven: req.N != nil})
+	opt := SectionOptions{IgnoreBankMarks: req.Banks != nil, Coordinates: req.Coordinates, NGiven: req.N != nil}
+	var sv Survey
+	var err error
+	if req.Book != nil {
+		var t *Table
+		if t, err = req.Book.ReadTable(req.Sheet); err == nil {
+			sv, err = SectionFromTable(t, opt)
+		}
+	} else {
+		sv, err = ReadSection(req.Path, req.Sheet, opt)
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -101,6 +119,9 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 		return nil, err
 	}
 	p := &Prepared{Survey: sv, Units: u, Site: sv.Site, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
+	if n := sv.ProjectionNote.String(); n != "" {
+		p.Notes = []string{n}
+	}
 	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
 	sec := sv.Section
 	if req.Banks != nil {

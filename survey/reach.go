@@ -641,6 +641,7 @@ func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 		}
 		out[i] = reach.Section{ID: row.ID, Geometry: g, Distance: row.Distance,
 			Left: row.WSLeft, Right: row.WSRight, Survey: row.Survey, Quality: row.Quality, Note: row.Note,
+			SurveyNote: r.Surveys[i].ProjectionNote.Text,
 			FlowLengths: subdivide.PerRegion{Left: zeroIfBlank(row.LeftLength), Channel: zeroIfBlank(row.ChannelLength),
 				Right: zeroIfBlank(row.RightLength)}}
 		out[i].MarkSD, _ = row.Quality.MarkSD(u)

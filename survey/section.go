@@ -37,6 +37,10 @@ type Survey struct {
 	// eastings and northings (zero value, Line "", for a survey by
 	// station).
 	Projection Projection
+	// ProjectionNote says how the stations were made from eastings and
+	// northings (zero for a survey by station): a fact of the input, for
+	// a report's inputs, not among the warnings.
+	ProjectionNote InputNote
 }
 
 // SectionOptions adjust how a survey is read. The zero value reads marks.

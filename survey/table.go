@@ -139,6 +139,9 @@ type inputBook struct {
 	*excelize.File
 	scans    *sheetScanner
 	date1904 bool
+	// links names the other workbooks this one links to (see
+	// externalLinks), nil when it links to none.
+	links []string
 }
 
 // shown rewrites the raw values of a row of a sheet (row is 1-based) as
@@ -234,7 +237,7 @@ func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
 	if err != nil {
 		return nil, &ParseError{File: name, Err: fmt.Errorf("cannot open workbook: %w", err)}
 	}
-	b := &inputBook{File: f, scans: &sheetScanner{zr: zr}}
+	b := &inputBook{File: f, scans: &sheetScanner{zr: zr}, links: externalLinks(zr)}
 	if props, err := f.GetWorkbookProps(); err == nil && props.Date1904 != nil {
 		b.date1904 = *props.Date1904
 	}
@@ -550,14 +553,26 @@ func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	if err != nil {
 		return sheet, warnings, err
 	}
+	if w := linksWarning(path, f.links); w != "" {
+		warnings = append(warnings, w)
+	}
 	if _, err := f.scans.scan(sheet); err != nil {
 		pe := &ParseError{File: path, Sheet: sheet, Err: err}
-		if re := (*rowOrderError)(nil); errors.As(err, &re) {
-			pe.Row = re.row
+		if se := (*scanError)(nil); errors.As(err, &se) {
+			pe.Row, pe.Column = se.row, se.col
 		}
 		return sheet, warnings, pe
 	}
 	return sheet, warnings, f.unsavedError(path, sheet)
+}
+
+// linksWarning is the warning of a workbook that links to other
+// workbooks (links, see externalLinks), "" when it links to none.
+func linksWarning(path string, links []string) string {
+	if len(links) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("%s: the workbook takes values from other workbooks (%s): they are read as last saved in it, not from those files, which are never opened", path, strings.Join(links, ", "))
 }
 
 // pickSheet is chooseSheet without the check of formulas.

@@ -317,7 +317,6 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	if err != nil {
 		return rep, err
 	}
-	moveSurveyNotes(rt, secs)
 	rep, err = reach.StepBackwater(secs, qs, b, opt)
 	switch {
 	case errors.Is(err, reach.ErrNoMarks):

@@ -242,7 +242,8 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 		return fmt.Errorf("compare: %w", err)
 	}
 	c.A, c.B = ps[0].Source(), ps[1].Source()
-	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(ps[0].Site.Merge(ps[1].Site), f.site)}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(ps[0].Site.Merge(ps[1].Site), f.site),
+		Notes: append(append([]string(nil), ps[0].Notes...), ps[1].Notes...)}
 	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
 	c.Warnings = append(warnings, c.Warnings...)
 	c.SetDatums(ps[0].Site.Datum, ps[1].Site.Datum)

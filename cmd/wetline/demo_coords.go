@@ -56,7 +56,7 @@ func (d *demo) coordinates() error {
 	if err != nil {
 		return err
 	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: p.Site, Notes: p.Notes}
 	rep.Ground = p.Ground
 	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	if err := drawRating(&rep, demoCoordSurvey, rep.Provenance.Site.Name); err != nil {

@@ -181,7 +181,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		if err != nil {
 			return nil, err
 		}
-		in.add(p.Inputs, p.Warnings)
+		in.addSection(p)
 		opt.Hydraulic = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 		opt.DatumGiven = f.fs != nil && f.fs.Changed("datum")
 		opt.Section = p.Survey.Section.Name
@@ -196,7 +196,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		if err != nil {
 			return nil, err
 		}
-		in.add(p.Inputs, p.Warnings)
+		in.addSection(p)
 		opt.Crest = &rating.HydraulicCurve{Geometry: p.Geometry, Datum: f.datum, Options: ropt}
 	}
 	// The report goes by the gaugings' file, with or without a section.
@@ -219,20 +219,26 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	rep.Warnings = append(in.warnings, rep.Warnings...)
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: in.inputs, Site: siteWith(in.site, f.site)}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: in.inputs, Site: siteWith(in.site, f.site), Notes: in.notes}
 	return rep, nil
 }
 
 // fitInputs gathers what fit read: the files, their readers' warnings and
 // what they say of the site.
 type fitInputs struct {
-	inputs, warnings []string
-	site             rating.Site
+	inputs, warnings, notes []string
+	site                    rating.Site
 }
 
 func (in *fitInputs) add(files, warnings []string) {
 	in.inputs = append(in.inputs, files...)
 	in.warnings = append(in.warnings, warnings...)
+}
+
+// addSection adds a section's files, warnings and input notes.
+func (in *fitInputs) addSection(p *survey.Prepared) {
+	in.add(p.Inputs, p.Warnings)
+	in.notes = append(in.notes, p.Notes...)
 }
 
 // readHydraulicTable reads a hydraulic rating table at gauge heights

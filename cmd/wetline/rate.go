@@ -195,7 +195,7 @@ func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingRe
 	if err != nil {
 		return rep, failed(p, err)
 	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site), Notes: p.Notes}
 	rep.Ground = p.Ground
 	rep.Calibration = cal
 	rep.Warnings = slices.Concat(p.Warnings, stageWarnings, rep.Warnings)

@@ -185,7 +185,6 @@ func estimate(path, sheet string, opt reach.EstimateOptions, ro survey.SectionOp
 	if err != nil {
 		return reach.Report{}, err
 	}
-	moveSurveyNotes(rt, secs)
 	rep, err := reach.Estimate(secs, opt)
 	if errors.Is(err, reach.ErrSlopeForReach) {
 		return rep, usageError{err: fmt.Errorf("slopearea: --slope: %w", err)}

@@ -451,3 +451,76 @@ func TestSurveyProjectionIsInputNotWarning(t *testing.T) {
 		t.Errorf("exit %d, console %q", code, errs)
 	}
 }
+
+// The same for one coordinate survey rated, fitted or compared: the
+// survey reader gives how the stations were made as a note of its own
+// (not a warning a caller must pick out by its words), and the reports
+// give it with their inputs.
+func TestSingleSurveyProjectionIsInputNote(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	var b strings.Builder
+	b.WriteString("easting,northing,elevation,n,mark\n")
+	for i, dz := range []float64{3, 1.5, 0, 0, 0, 1.5, 3} {
+		mark := map[int]string{0: "left pin", 6: "right pin"}[i]
+		fmt.Fprintf(&b, "%.3f,%.3f,%.3f,0.035,%s\n", 7000+3*float64(i), 9000-0.01*float64(i%2), 100+dz, mark)
+	}
+	gaugings := "time,stage,discharge\n2024-01-01,100.6,0.9\n2024-02-01,101.0,3.1\n2024-03-01,101.5,7.4\n2024-04-01,102.0,13.5\n2024-05-01,102.4,19.8\n2024-06-01,100.8,1.8\n"
+	for name, text := range map[string]string{"c.csv": b.String(), "d.csv": b.String(), "g.csv": gaugings} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	c, d := filepath.Join(dir, "c.csv"), filepath.Join(dir, "d.csv")
+	const projected = "stations were projected from eastings and northings"
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		notes int // how many times the report gives the note
+	}{
+		{"rate text", []string{"rate", c, "--slope", "0.001", "--format", "text"}, 1},
+		{"rate json", []string{"rate", c, "--slope", "0.001", "--format", "json"}, 1},
+		{"rate to a file", []string{"rate", c, "--slope", "0.001", "-o", filepath.Join(t.TempDir(), "r.csv")}, 0},
+		{"compare text", []string{"compare", c, d, "--format", "text"}, 2},
+		{"compare json", []string{"compare", c, d, "--format", "json"}, 2},
+		{"fit text", []string{"fit", filepath.Join(dir, "g.csv"), "--section", c, "--slope", "0.001", "--datum", "0", "--format", "text"}, 1},
+		{"fit json", []string{"fit", filepath.Join(dir, "g.csv"), "--section", c, "--slope", "0.001", "--datum", "0", "--format", "json"}, 1},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if n := strings.Count(out, projected); n != tc.notes {
+				t.Errorf("the report gives the note %d times, want %d:\n%s", n, tc.notes, out)
+			}
+			for _, line := range strings.Split(out+errs, "\n") {
+				if strings.Contains(line, projected) && strings.Contains(line, "warning") {
+					t.Errorf("the note among the warnings: %s", line)
+				}
+			}
+			if tc.notes == 0 && !strings.Contains(errs, "input: "+c+":1: "+projected) {
+				t.Errorf("the console does not give the note as an input's:\n%s", errs)
+			}
+			if strings.HasSuffix(tc.name, "json") {
+				var doc struct {
+					Warnings []string `json:"warnings"`
+					Notes    []string `json:"input_notes"`
+				}
+				if err := json.Unmarshal([]byte(out), &doc); err != nil {
+					t.Fatal(err)
+				}
+				if len(doc.Notes) != tc.notes {
+					t.Errorf("input_notes %q, want %d", doc.Notes, tc.notes)
+				}
+				for _, w := range doc.Warnings {
+					if strings.Contains(w, projected) {
+						t.Errorf("warning %q", w)
+					}
+				}
+			} else if tc.notes > 0 && !strings.Contains(out, "Input: "+c+":1: "+projected) {
+				t.Errorf("no input line:\n%s", out)
+			}
+		})
+	}
+}

@@ -86,7 +86,7 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 		return failed(p, err)
 	}
 	rep.Section = p.Source()
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site)}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site), Notes: p.Notes}
 	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	write := results.WriteSolveText
 	if f.format == "json" {

@@ -107,22 +107,56 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 // ListWarn is List, and also returns warnings: hidden sheets of a
 // workbook are passed over, each named in a warning, and a named sheet
 // that is hidden is read with a warning.
+//
+// A CSV file of a folder whose header plainly makes it another kind of
+// table (a reach table, gaugings, a rating table: see survey.SniffCSV) is
+// skipped, and one warning lists them; a file named on its own is rated
+// whatever it holds. A coordinate survey and a survey by station
+// projected from it (its eastings and northings the same) are both rated,
+// with a warning that the section is rated twice.
 func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, error) {
-	var files []string
+	var files, skipped []string
+	sniffs := map[string]survey.Sniff{}
 	for _, a := range args {
 		st, err := os.Stat(a)
 		if err != nil || !st.IsDir() {
 			files = append(files, a) // a missing file fails as its section
+			if !survey.IsWorkbook(a) {
+				if sn, err := survey.SniffCSV(a); err == nil {
+					sniffs[a] = sn
+				}
+			}
 			continue
 		}
 		found, err := surveyFiles(a)
 		if err != nil {
 			return nil, nil, nil, err
 		}
-		files = append(files, found...)
+		kept := 0
+		for _, f := range found {
+			if !survey.IsWorkbook(f) {
+				sn, err := survey.SniffCSV(f)
+				if err == nil && sn.Other != "" {
+					skipped = append(skipped, fmt.Sprintf("%s (%s)", filepath.Base(f), sn.Other))
+					continue
+				}
+				if err == nil {
+					sniffs[f] = sn
+				}
+			}
+			files = append(files, f)
+			kept++
+		}
+		if kept == 0 {
+			return nil, nil, nil, fmt.Errorf("%s: %w (%s)", a, ErrNoSurveys, strings.Join(skipped, ", "))
+		}
 	}
 	var jobs []Job
 	var warnings []string
+	if len(skipped) > 0 {
+		warnings = append(warnings, fmt.Sprintf("skipped %d file(s) that are not surveys: %s", len(skipped), strings.Join(skipped, ", ")))
+	}
+	warnings = append(warnings, twinWarnings(files, sniffs)...)
 	for _, path := range files {
 		js, ws := fileJobs(path, sheet)
 		jobs = append(jobs, js...)
@@ -130,6 +164,44 @@ func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, erro
 	}
 	uniqueNames(jobs, ext)
 	return jobs, files, warnings, nil
+}
+
+// twinWarnings warns of each coordinate survey among files whose points
+// a survey by station among them also gives (projected from it: the
+// first points of the coordinate survey are among the other's): the
+// section would be rated twice.
+func twinWarnings(files []string, sniffs map[string]survey.Sniff) []string {
+	var out []string
+	for _, c := range files {
+		sc, ok := sniffs[c]
+		if !ok || sc.Projected || len(sc.Points) == 0 {
+			continue
+		}
+		for _, p := range files {
+			sp, ok := sniffs[p]
+			if !ok || !sp.Projected || !sharesPoints(sc.Points, sp.Points) {
+				continue
+			}
+			out = append(out, fmt.Sprintf("%s and %s hold one section (%s gives stations projected from the eastings and northings of %s): it is rated twice; leave one of them out",
+				c, p, filepath.Base(p), filepath.Base(c)))
+		}
+	}
+	return out
+}
+
+// sharesPoints reports whether the first points of a (up to three) are
+// all among b's.
+func sharesPoints(a, b [][2]float64) bool {
+	in := map[[2]float64]bool{}
+	for _, p := range b {
+		in[p] = true
+	}
+	for _, p := range a[:min(3, len(a))] {
+		if !in[p] {
+			return false
+		}
+	}
+	return true
 }
 
 // CheckFolders returns the error of the first folder among args that
@@ -313,6 +385,12 @@ const SkippedNote = "a header and no survey rows"
 // fails; with default stages it fails as one with no depth to rate
 // (results.ErrNoDepth), as one holding no water below its ends does.
 func Rate(j Job, opt Options) Result {
+	return rate(j, opt, nil)
+}
+
+// rate is Rate, reading a workbook's sheet from book when it is not nil
+// (the workbook j.Path names, already open).
+func rate(j Job, opt Options, book *survey.OpenBook) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
 		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
@@ -324,10 +402,10 @@ func Rate(j Job, opt Options) Result {
 		return fail(j.Err)
 	}
 	req := opt.Request
-	req.Path, req.Sheet = j.Path, j.Sheet
+	req.Path, req.Sheet, req.Book = j.Path, j.Sheet, book
 	p, err := survey.Prepare(req)
 	if err != nil {
-		if headerOnly(j, err) {
+		if headerOnly(j, book, err) {
 			en.Skipped = SkippedNote
 			return Result{Entry: en}
 		}
@@ -391,12 +469,18 @@ func (g *unitGuard) check(r Result) Result {
 
 // headerOnly reports whether a survey that failed with err has a header
 // and no data rows. Only a survey found with too few points is read again
-// to tell.
-func headerOnly(j Job, err error) bool {
+// to tell (from book when it is not nil).
+func headerOnly(j Job, book *survey.OpenBook, err error) bool {
 	if !errors.Is(err, subdivide.ErrTooFewPoints) {
 		return false
 	}
-	t, rerr := survey.ReadTable(j.Path, j.Sheet)
+	var t *survey.Table
+	var rerr error
+	if book != nil {
+		t, rerr = book.ReadTable(j.Sheet)
+	} else {
+		t, rerr = survey.ReadTable(j.Path, j.Sheet)
+	}
 	return rerr == nil && len(t.Header) > 0 && len(t.Records) == 0
 }
 
@@ -413,7 +497,18 @@ func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result
 		workers = runtime.GOMAXPROCS(0)
 	}
 	var units unitGuard
-	return orderedPool(ctx, len(jobs), workers, func(i int) Result { return Rate(jobs[i], opt) },
+	books := newOpenBooks(jobs)
+	defer books.closeAll()
+	return orderedPool(ctx, len(jobs), workers, func(i int) Result {
+		book, err := books.get(jobs[i])
+		if err != nil {
+			j := jobs[i]
+			j.Err = err
+			return Rate(j, opt)
+		}
+		defer books.done(jobs[i])
+		return rate(jobs[i], opt, book)
+	},
 		func(i int, r Result) error {
 			if err := emit(i, units.check(r)); err != nil {
 				return err
@@ -423,6 +518,83 @@ func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result
 			}
 			return nil
 		})
+}
+
+// openBooks holds the workbooks of a batch open while their sheets are
+// rated: each is opened when its first sheet is rated and closed when its
+// last is done, so a workbook of N sheets is read once, not N times, and
+// a folder of workbooks holds few open at once (jobs run in input order).
+type openBooks struct {
+	mu   sync.Mutex
+	refs map[string]*bookRef
+}
+
+// bookRef is one workbook of a batch: the jobs not yet done, and the
+// workbook once opened (or why it could not be).
+type bookRef struct {
+	once sync.Once
+	left int
+	book *survey.OpenBook
+	err  error
+}
+
+// newOpenBooks counts the jobs reading each workbook sheet by sheet.
+func newOpenBooks(jobs []Job) *openBooks {
+	b := &openBooks{refs: map[string]*bookRef{}}
+	for _, j := range jobs {
+		if bookJob(j) {
+			r := b.refs[j.Path]
+			if r == nil {
+				r = &bookRef{}
+				b.refs[j.Path] = r
+			}
+			r.left++
+		}
+	}
+	return b
+}
+
+// bookJob reports a job reading a sheet of a workbook.
+func bookJob(j Job) bool { return j.Err == nil && j.Sheet != "" && survey.IsWorkbook(j.Path) }
+
+// get returns the open workbook of a job (nil for a job reading no
+// workbook sheet), opening it on first use.
+func (b *openBooks) get(j Job) (*survey.OpenBook, error) {
+	if !bookJob(j) {
+		return nil, nil
+	}
+	b.mu.Lock()
+	r := b.refs[j.Path]
+	b.mu.Unlock()
+	r.once.Do(func() { r.book, r.err = survey.OpenWorkbookFile(j.Path) })
+	return r.book, r.err
+}
+
+// done notes a job of a workbook done, closing the workbook after its
+// last.
+func (b *openBooks) done(j Job) {
+	if !bookJob(j) {
+		return
+	}
+	b.mu.Lock()
+	r := b.refs[j.Path]
+	r.left--
+	last := r.left == 0
+	b.mu.Unlock()
+	if last && r.book != nil {
+		r.book.Close()
+	}
+}
+
+// closeAll closes every workbook still open (a batch stopped early).
+func (b *openBooks) closeAll() {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	for _, r := range b.refs {
+		if r.book != nil {
+			r.book.Close()
+		}
+	}
 }
 
 // Summary is what a batch wrote.

@@ -791,3 +791,56 @@ func TestRateShallowSection(t *testing.T) {
 		t.Errorf("a section 0.00004 deep: error %q with %d rows, want stages written alike", r.Entry.Err, len(r.Table.Rows))
 	}
 }
+
+// A folder holding a reach table, gaugings and a rating table beside its
+// surveys is rated, those files skipped with one warning naming them
+// (the whole batch failed on the reach table); a coordinate survey and
+// the survey by station projected from it are both rated, with a warning
+// that the section is rated twice. A folder of nothing but such tables
+// holds no survey.
+func TestListSkipsTablesThatAreNotSurveys(t *testing.T) {
+	dir := t.TempDir()
+	files := map[string]string{
+		"a.csv":        "station,elevation,n\n0,104,0.04\n10,100,0.04\n20,104,0.04\n",
+		"b-coords.csv": "easting,northing,elevation,n,mark\n500,800,104,0.04,left pin\n505,800,100,0.04,\n510,800,104,0.04,right pin\n",
+		"b.csv":        "# b, projected\nstation,elevation,n,mark,note,easting,northing,offset,row\n0,104,0.04,left pin,,500,800,0,2\n5,100,0.04,,,505,800,0,3\n10,104,0.04,right pin,,510,800,0,4\n",
+		"reach.csv":    "section,survey,distance,ws_left,ws_right\nA,a.csv,0,103,103\nB,b.csv,100,102.9,102.9\n",
+		"visits.csv":   "time,stage,discharge\n2024-01-01,101,3\n",
+		"rating.csv":   "stage,discharge\n100,0\n101,3\n",
+	}
+	for name, text := range files {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	jobs, _, warnings, err := batch.ListWarn([]string{dir}, "", "csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, j := range jobs {
+		names = append(names, j.Name)
+	}
+	if got := strings.Join(names, " "); got != "a b-coords b" {
+		t.Errorf("jobs %s, want a b-coords b", got)
+	}
+	w := strings.Join(warnings, "\n")
+	if !strings.Contains(w, "skipped 3 file(s) that are not surveys: rating.csv (a rating table), reach.csv (a reach table), visits.csv (a table of gaugings)") {
+		t.Errorf("warnings:\n%s", w)
+	}
+	if !strings.Contains(w, "b-coords.csv and "+filepath.Join(dir, "b.csv")+" hold one section") || !strings.Contains(w, "rated twice") {
+		t.Errorf("no warning of the section rated twice:\n%s", w)
+	}
+	// Named on its own, a reach table is rated, and fails as a section.
+	jobs, _, _, err = batch.ListWarn([]string{filepath.Join(dir, "reach.csv"), filepath.Join(dir, "a.csv")}, "", "csv")
+	if err != nil || len(jobs) != 2 {
+		t.Errorf("named files: %d jobs, %v", len(jobs), err)
+	}
+	only := t.TempDir()
+	if err := os.WriteFile(filepath.Join(only, "reach.csv"), []byte(files["reach.csv"]), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, _, _, err := batch.ListWarn([]string{only}, "", "csv"); !errors.Is(err, batch.ErrNoSurveys) {
+		t.Errorf("a folder of a reach table alone: %v, want ErrNoSurveys", err)
+	}
+}

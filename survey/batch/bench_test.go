@@ -12,6 +12,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/xuri/excelize/v2"
+
 	"wetline/rating"
 	"wetline/survey/batch"
 	"wetline/survey/output"
@@ -133,4 +135,64 @@ func BenchmarkBatch(b *testing.B) {
 		}
 		perCore(b, d)
 	})
+}
+
+// BenchmarkAllSheets reads and rates every sheet of an invented workbook
+// of 300 (and 1200) small surveys, 11 points each, at 41 stages, as
+// `rate BOOK --all-sheets` does: listing the sheets, then rating each.
+// Reading a workbook once for all its sheets keeps the time linear in
+// the number of sheets.
+func BenchmarkAllSheets(b *testing.B) {
+	for _, n := range []int{300, 1200} {
+		b.Run(fmt.Sprintf("sheets=%d", n), func(b *testing.B) { benchAllSheets(b, n) })
+	}
+}
+
+func benchAllSheets(b *testing.B, benchSheets int) {
+	path := filepath.Join(b.TempDir(), "sheets.xlsx")
+	f := excelize.NewFile()
+	for k := 0; k < benchSheets; k++ {
+		name := fmt.Sprintf("XS%03d", k+1)
+		if k == 0 {
+			if err := f.SetSheetName("Sheet1", name); err != nil {
+				b.Fatal(err)
+			}
+		} else if _, err := f.NewSheet(name); err != nil {
+			b.Fatal(err)
+		}
+		rows := [][]any{{"station", "elevation", "n"}}
+		for i := 0; i <= 10; i++ {
+			x := float64(i) * 6
+			u := (x - 30) / 30
+			rows = append(rows, []any{x, 100.2 + 4.8*u*u + 0.01*float64(k%7), 0.04})
+		}
+		for r, row := range rows {
+			cell, _ := excelize.CoordinatesToCellName(1, r+1)
+			if err := f.SetSheetRow(name, cell, &row); err != nil {
+				b.Fatal(err)
+			}
+		}
+	}
+	if err := f.SaveAs(path); err != nil {
+		b.Fatal(err)
+	}
+	opt := batch.Options{Stages: rating.StageSpec{From: 100.5, To: 104.5, FromSet: true, ToSet: true, Step: 0.1}, Rating: rating.Options{Slope: 0.001}}
+	for b.Loop() {
+		jobs, _, err := batch.List([]string{path}, "", "csv")
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(jobs) != benchSheets {
+			b.Fatalf("%d jobs, want %d", len(jobs), benchSheets)
+		}
+		err = batch.Run(context.Background(), jobs, opt, func(i int, r batch.Result) error {
+			if r.Entry.Err != "" {
+				return fmt.Errorf("%s: %s", r.Entry.Section, r.Entry.Err)
+			}
+			return nil
+		})
+		if err != nil {
+			b.Fatal(err)
+		}
+	}
 }

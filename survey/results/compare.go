@@ -290,8 +290,9 @@ func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error 
 		Warnings []string                `json:"warnings"`
 		Caution  string                  `json:"caution"`
 		Site     *jsonSite               `json:"site"`
+		Notes    []string                `json:"input_notes,omitempty"`
 	}{Kind: "sections", A: c.A, B: c.B, Units: UnitNames(c.Units), Rows: []jsonSectionDifference{}, Warnings: nonNil(c.Warnings), Caution: rating.Caution,
-		Site: siteJSON(c.Provenance.Site)}
+		Site: siteJSON(c.Provenance.Site), Notes: c.Provenance.Notes}
 	for _, r := range c.Rows {
 		out.Rows = append(out.Rows, jsonSectionDifference{Float(r.Stage), geometryJSON(r.A), geometryJSON(r.B), geometryJSON(r.Difference), Float(r.ConveyancePercent)})
 	}
@@ -339,6 +340,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 		{"units", fmt.Sprintf("%s: stage in %s, area in %s, conveyance in %s", u, L, A, K), ""},
 		{"method", "area, wetted perimeter, top width and Manning conveyance of each survey at each stage (Chow, 1959); differences B − A", ""},
 	}
+	items = append(items, inputNoteItems(c.Provenance)...)
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
 		return err
 	}

@@ -307,6 +307,7 @@ type jsonControl struct {
 // after the table.
 type jsonFitReport struct {
 	Site          string              `json:"site"`
+	InputNotes    []string            `json:"input_notes,omitempty"`
 	Units         map[string]string   `json:"units"`
 	Datum         Float               `json:"datum"`
 	Slope         Float               `json:"slope"`
@@ -376,7 +377,7 @@ type jsonFitReport struct {
 // heights.
 // Parts that do not apply are null or empty; undefined numbers are null.
 func WriteFitJSON(w io.Writer, r *gauged.Report) error {
-	out := jsonFitReport{Site: r.Site, Section: r.Section, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
+	out := jsonFitReport{Site: r.Site, Section: r.Section, InputNotes: r.Provenance.Notes, SiteMetadata: siteJSON(r.Provenance.Site), Units: UnitNames(r.Units), Datum: Float(r.Datum), Slope: Float(r.Slope),
 		Segments: []jsonSegment{}, Breakpoints: []jsonBreak{}, Table: []jsonTableRow{}, Gaugings: []jsonGauging{},
 		SEPercent: Float(math.NaN()), SELog: Float(math.NaN()), Warnings: nonNil(r.Warnings), Caution: rating.Caution,
 		Convention: gauged.UncertaintyConvention(), HydSource: r.HydraulicSource, BankStage: Float(r.BankStage), Floodplain: r.FloodplainAdded,

@@ -146,6 +146,7 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	add("read from", strings.Join(r.Provenance.Inputs, "; "), "")
 	add("program", programName(r.Provenance), "")
 	add("site details", r.Provenance.Site.String(), "")
+	items = append(items, inputNoteItems(r.Provenance)...)
 	add("units", fmt.Sprintf("%s: length %s, discharge %s", u, L, Q), "")
 	switch {
 	case r.Hydraulic != nil:

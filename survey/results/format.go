@@ -197,12 +197,34 @@ type jsonSite struct {
 }
 
 // siteLine is the text line naming the site of a report ("" when nothing
-// is known of it).
+// is known of it), followed by a line for each of the inputs' notes
+// (see inputNoteLines).
 func siteLine(p rating.Provenance) string {
+	out := inputNoteLines(p)
 	if s := p.Site.String(); s != "" {
-		return "Site: " + s + "\n"
+		return "Site: " + s + "\n" + out
 	}
-	return ""
+	return out
+}
+
+// inputNoteLines is a text line "Input: NOTE" for each note of a report's
+// inputs (how a coordinate survey's stations were made): facts of the
+// inputs, given with them rather than among the warnings.
+func inputNoteLines(p rating.Provenance) string {
+	var b strings.Builder
+	for _, n := range p.Notes {
+		b.WriteString("Input: " + n + "\n")
+	}
+	return b.String()
+}
+
+// inputNoteItems are the summary items of the notes of a report's inputs.
+func inputNoteItems(p rating.Provenance) []SummaryItem {
+	var out []SummaryItem
+	for _, n := range p.Notes {
+		out = append(out, SummaryItem{"input note", n, ""})
+	}
+	return out
 }
 
 // siteJSON returns the JSON of a site, nil when nothing is known.

@@ -165,17 +165,22 @@ func calibrationJSON(c *rating.NCalibration) *jsonCalibration {
 // Undefined values are null.
 func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 	t := rep.Table
-	return writeJSONObject(w, []jsonField{
+	fields := []jsonField{
 		{key: "section", value: t.Name},
 		{key: "units", value: UnitNames(t.Units)},
 		{key: "slope", value: Float(t.Slope)},
 		{key: "rows", n: len(t.Rows), item: func(i int) any { return ratingJSONRow(t.Rows[i]) }},
 		{key: "gauge_datum", value: gaugeDatum(t)},
 		{key: "site", value: siteJSON(rep.Provenance.Site)},
+	}
+	if len(rep.Provenance.Notes) > 0 {
+		fields = append(fields, jsonField{key: "input_notes", value: rep.Provenance.Notes})
+	}
+	return writeJSONObject(w, append(fields, []jsonField{
 		{key: "warnings", value: nonNil(rep.Warnings)},
 		{key: "caution", value: rating.Caution},
 		{key: "calibration", value: calibrationJSON(rep.Calibration)},
-	})
+	}...))
 }
 
 // ratingJSONRow lays out one row of a rating table in JSON.
@@ -265,9 +270,7 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 	bw := bufio.NewWriter(w)
 	fmt.Fprintf(bw, "Rating of %s at friction slope %g (%s units: stage and lengths %s, area %s, discharge %s)\n",
 		t.Name, t.Slope, u, u.Length(), u.Area(), u.Discharge())
-	if s := rep.Provenance.Site.String(); s != "" {
-		fmt.Fprintf(bw, "Site: %s\n", s)
-	}
+	bw.WriteString(siteLine(rep.Provenance))
 	if t.GaugeHeights {
 		fmt.Fprintf(bw, "Stages are gauge heights: elevation = gauge height %s %s\n", rating.DatumTerm(t.Datum), u.Length())
 	}

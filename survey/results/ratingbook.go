@@ -430,7 +430,7 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 	if len(rep.Lookup.Rows) > 0 {
 		items = append(items, SummaryItem{"lookup sheet", "discharge at every hundredth of stage, each computed at that stage (not interpolated)", ""})
 	}
-	return WriteSummarySheet(b, SheetSummary, items, rep.Warnings)
+	return WriteSummarySheet(b, SheetSummary, append(items, inputNoteItems(rep.Provenance)...), rep.Warnings)
 }
 
 // newBook starts a results workbook of a kind of report ("rating",
