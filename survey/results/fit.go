@@ -307,7 +307,6 @@ type jsonControl struct {
 // after the table.
 type jsonFitReport struct {
 	Site          string              `json:"site"`
-	InputNotes    []string            `json:"input_notes,omitempty"`
 	Units         map[string]string   `json:"units"`
 	Datum         Float               `json:"datum"`
 	Slope         Float               `json:"slope"`
@@ -340,6 +339,7 @@ type jsonFitReport struct {
 	Caution       string              `json:"caution"`
 	SiteMetadata  *jsonSite           `json:"site_metadata"`
 	Section       string              `json:"section"`
+	InputNotes    []string            `json:"input_notes,omitempty"`
 }
 
 // WriteFitJSON writes a gaugings report as one JSON object:
