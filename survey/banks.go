@@ -30,8 +30,8 @@ type bankMark struct {
 func bankMarks() []bankMark {
 	return []bankMark{
 		{MarkBank, eitherBank}, {"top of bank", eitherBank}, {"bank top", eitherBank}, {"tob", eitherBank},
-		{"left bank", leftBank}, {"left top of bank", leftBank}, {"left bank top", leftBank}, {"lb", leftBank}, {"ltob", leftBank},
-		{"right bank", rightBank}, {"right top of bank", rightBank}, {"right bank top", rightBank}, {"rb", rightBank}, {"rtob", rightBank},
+		{"left bank", leftBank}, {"left top of bank", leftBank}, {"left bank top", leftBank}, {"lb", leftBank}, {"ltob", leftBank}, {"left tob", leftBank},
+		{"right bank", rightBank}, {"right top of bank", rightBank}, {"right bank top", rightBank}, {"rb", rightBank}, {"rtob", rightBank}, {"right tob", rightBank},
 	}
 }
 
@@ -57,11 +57,13 @@ func bankWord(mark string) string {
 }
 
 // readBankMark reports whether a mark is a bank mark (one of BankWords)
-// and the side it names.
+// and the side it names. The mark matches with its spaces or without
+// them, so that "L. B." is lb as "L.B." is.
 func readBankMark(mark string) (bankSide, bool) {
 	w := bankWord(mark)
+	compact := strings.ReplaceAll(w, " ", "")
 	for _, b := range bankMarks() {
-		if b.word == w {
+		if b.word == w || strings.ReplaceAll(b.word, " ", "") == compact {
 			return b.side, true
 		}
 	}
