@@ -5,11 +5,9 @@ import (
 	"bytes"
 	"errors"
 	"io"
-	"maps"
 	"os"
 	"path/filepath"
 	"regexp"
-	"slices"
 	"strings"
 	"testing"
 )
@@ -150,28 +148,8 @@ func TestCellOrderAndRowNumberNamed(t *testing.T) {
 // addZipEntries returns the zip archive data with the entries added.
 func addZipEntries(t *testing.T, data []byte, entries map[string]string) []byte {
 	t.Helper()
-	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var out bytes.Buffer
-	zw := zip.NewWriter(&out)
-	for _, zf := range zr.File {
-		if err := zw.Copy(zf); err != nil {
-			t.Fatal(err)
-		}
-	}
-	for _, name := range slices.Sorted(maps.Keys(entries)) {
-		w, err := zw.Create(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		w.Write([]byte(entries[name]))
-	}
-	if err := zw.Close(); err != nil {
-		t.Fatal(err)
-	}
-	return out.Bytes()
+	keep := func(_ string, b []byte) []byte { return b }
+	return editZip(t, data, "", "", keep, entries)
 }
 
 // A workbook taking a value from another workbook ([1]Sheet1!A1) holds

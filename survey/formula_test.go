@@ -5,8 +5,10 @@ import (
 	"bytes"
 	"errors"
 	"io"
+	"maps"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -71,6 +73,14 @@ func rewriteZip(t *testing.T, data []byte, edit func(name string, b []byte) []by
 // to and every entry passed through edit.
 func renameZip(t *testing.T, data []byte, from, to string, edit func(name string, b []byte) []byte) []byte {
 	t.Helper()
+	return editZip(t, data, from, to, edit, nil)
+}
+
+// editZip returns the zip archive data with the entry from renamed to
+// to, every entry passed through edit, and the entries added (in name
+// order).
+func editZip(t *testing.T, data []byte, from, to string, edit func(name string, b []byte) []byte, added map[string]string) []byte {
+	t.Helper()
 	zr, err := zip.NewReader(bytes.NewReader(data), int64(len(data)))
 	if err != nil {
 		t.Fatal(err)
@@ -96,6 +106,13 @@ func renameZip(t *testing.T, data []byte, from, to string, edit func(name string
 			t.Fatal(err)
 		}
 		w.Write(edit(zf.Name, b))
+	}
+	for _, name := range slices.Sorted(maps.Keys(added)) {
+		w, err := zw.Create(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write([]byte(added[name]))
 	}
 	if err := zw.Close(); err != nil {
 		t.Fatal(err)
