@@ -231,17 +231,7 @@ func TestFolderForeignEntries(t *testing.T) {
 func TestFolderForeignAtCommit(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "ratings")
-	f := New()
-	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
-		t.Fatal(err)
-	}
-	if err := f.Commit(); err != nil {
-		t.Fatal(err)
-	}
-	f = New()
-	if err := writeFolder(t, f, out, "b.csv", marker); err != nil {
-		t.Fatal(err)
-	}
+	f := rewriteFolder(t, out)
 	writeString(t, filepath.Join(out, "notes.txt"), "mine\n")
 	if err := f.Commit(); !errors.Is(err, ErrForeignFolder) {
 		t.Errorf("commit: %v, want ErrForeignFolder", err)
@@ -283,17 +273,7 @@ func TestFolderLink(t *testing.T) {
 func TestFolderRolledBack(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "ratings")
-	f := New()
-	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
-		t.Fatal(err)
-	}
-	if err := f.Commit(); err != nil {
-		t.Fatal(err)
-	}
-	f = New()
-	if err := writeFolder(t, f, out, "b.csv", marker); err != nil {
-		t.Fatal(err)
-	}
+	f := rewriteFolder(t, out)
 	f.rename = func(o, n string) error {
 		if strings.HasSuffix(o, ".tmpdir") {
 			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
@@ -309,4 +289,23 @@ func TestFolderRolledBack(t *testing.T) {
 	if l := leftovers(t, dir, "ratings"); len(l) > 0 {
 		t.Errorf("left beside it: %v", l)
 	}
+}
+
+// rewriteFolder commits an earlier output folder at out holding a.csv, and
+// returns a new output with the folder written again holding b.csv, not
+// yet committed.
+func rewriteFolder(t *testing.T, out string) *Files {
+	t.Helper()
+	f := New()
+	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	f = New()
+	if err := writeFolder(t, f, out, "b.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	return f
 }
