@@ -139,6 +139,15 @@ func runDemo(ctx context.Context, e *env, args []string) error {
 // demo writes into it again; any other folder must be new or empty.
 const demoMark = ".wetline-demo"
 
+// Causes of a refused demo folder (exit 1, as any output that cannot be
+// used).
+var (
+	// ErrDemoFolder: the folder holds files an earlier demo did not write.
+	ErrDemoFolder = errors.New("give a new or empty folder")
+	// ErrDemoLink: an earlier demo's folder holds a symbolic link.
+	ErrDemoLink = errors.New("remove it or give a new folder")
+)
+
 // demoFolder refuses a demo folder that holds files the demo did not
 // write: an existing folder must be empty or marked by an earlier demo
 // (demoMark), since the demo writes its files under fixed names and would
@@ -149,14 +158,14 @@ func demoFolder(dir string) error {
 	case errors.Is(err, fs.ErrNotExist):
 		return nil
 	case err != nil:
-		return usagef("demo: -o %s: %v", dir, err)
+		return fmt.Errorf("demo: -o %s: %w", dir, err)
 	case len(ents) == 0:
 		return nil
 	}
 	if fi, err := os.Lstat(filepath.Join(dir, demoMark)); err == nil && fi.Mode().IsRegular() {
 		return demoLinks(dir)
 	}
-	return usagef("demo: -o %s holds files an earlier demo did not write (such as %s): give a new or empty folder", dir, ents[0].Name())
+	return fmt.Errorf("demo: -o %s holds files an earlier demo did not write (such as %s): %w", dir, ents[0].Name(), ErrDemoFolder)
 }
 
 // demoLinks refuses an earlier demo's folder holding a link: the demo
@@ -164,10 +173,10 @@ func demoFolder(dir string) error {
 func demoLinks(dir string) error {
 	return filepath.WalkDir(dir, func(path string, d fs.DirEntry, err error) error {
 		if err != nil {
-			return usagef("demo: -o %s: %v", dir, err)
+			return fmt.Errorf("demo: -o %s: %w", dir, err)
 		}
 		if d.Type()&fs.ModeSymlink != 0 {
-			return usagef("demo: -o %s holds a link, %s, which the demo would write through: remove it or give a new folder", dir, path)
+			return fmt.Errorf("demo: -o %s holds a link, %s, which the demo would write through: %w", dir, path, ErrDemoLink)
 		}
 		return nil
 	})
