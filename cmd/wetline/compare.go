@@ -203,7 +203,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		"text": results.WriteRatingComparisonText, "json": results.WriteRatingComparisonJSON,
 		"csv": results.WriteRatingComparisonCSV, "xlsx": results.WriteRatingComparisonWorkbook,
 	}[format]
-	what := fmt.Sprintf("two ratings, largest difference %s %% at stage %s %s", strings.TrimSpace(fmt.Sprintf("%.2f", c.MaxPercent)), results.FormatLength(c.MaxStage), c.Units.Length())
+	what := "two ratings, largest difference " + results.LargestDifference(&c)
 	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) }, what, len(c.Rows))
 }
 

@@ -246,12 +246,13 @@ func TestTooFineStep(t *testing.T) {
 }
 
 // TestCompareSummaryUnits: the console summary after a written comparison
-// gives the stage of the largest difference with its unit, SI or US.
+// gives the largest difference as the report's headline does, in
+// discharge first, with the stage and its unit, SI or US.
 func TestCompareSummaryUnits(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []struct {
 		units, unit string
-	}{{"si", " m,"}, {"us", " ft,"}} {
+	}{{"si", " m3/s at 1.2 m "}, {"us", " ft3/s at 1.2 ft "}} {
 		t.Run(tc.units, func(t *testing.T) {
 			t.Parallel()
 			path := filepath.Join(t.TempDir(), "c.txt")
@@ -265,8 +266,8 @@ func TestCompareSummaryUnits(t *testing.T) {
 			}
 			line := errs[i:]
 			line = line[:strings.IndexByte(line, '\n')]
-			if !strings.Contains(line, tc.unit) || !strings.Contains(line, "% at stage ") {
-				t.Errorf("summary %q: want the stage in%s", line, strings.TrimSuffix(tc.unit, ","))
+			if !strings.Contains(line, tc.unit) || !strings.Contains(line, "in percent, ") {
+				t.Errorf("summary %q: want the discharge difference%s and the largest percentage", line, tc.unit)
 			}
 		})
 	}

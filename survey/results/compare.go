@@ -116,7 +116,7 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	ts := comparedTables(c)
 	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
 	fmt.Fprintf(bw, "Common range of stage: %s to %s %s, within the rows of both tables; %s\n", FormatLength(c.From), FormatLength(c.To), L, extrapolationWords(c))
-	fmt.Fprintf(bw, "Largest difference: %s\n", largestWords(c))
+	fmt.Fprintf(bw, "Largest difference: %s\n", LargestDifference(c))
 	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s %9s\n", "stage", "A", "B", "B − A", "% diff.", "shift")
 	fmt.Fprintf(bw, "  %9s %12s %12s %12s %9s %9s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")", "", "("+L+")")
 	for _, r := range c.Rows {
@@ -189,7 +189,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
 		{"common range of stage", fmt.Sprintf("%s to %s (within the rows of both tables)", FormatLength(c.From), FormatLength(c.To)), L},
 		{"extrapolated above the highest gauging", extrapolationWords(c), ""},
-		{"largest difference", largestWords(c), ""},
+		{"largest difference", LargestDifference(c), ""},
 	}
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
 		return err
@@ -382,10 +382,10 @@ func WriteComparisonSummary(w io.Writer, what string, rows int, warnings []strin
 	return endSummary(bw, warnings)
 }
 
-// largestWords says where two ratings differ most: in discharge, with its
+// LargestDifference says where two ratings differ most: in discharge, with its
 // percentage, and in percent where that falls elsewhere (near zero flow a
 // small difference is a large percentage).
-func largestWords(c *gauged.RatingComparison) string {
+func LargestDifference(c *gauged.RatingComparison) string {
 	L, Q := c.Units.Length(), c.Units.Discharge()
 	if math.IsNaN(c.MaxDifference) {
 		return "none (no row)"
