@@ -4,8 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"slices"
 	"strings"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -129,7 +131,80 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if len(gs.Gaugings) == 0 {
 		return gs, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
+	gs.Warnings = append(gs.Warnings, stageSpanWarning(gs)...)
+	gs.Warnings = append(gs.Warnings, twinGaugingWarnings(gs.Gaugings)...)
 	return gs, nil
+}
+
+// MaxGaugedSpan is the widest range of gauge heights the gaugings of one
+// gauge are expected to span, in metres (MaxGaugedSpanFeet in feet): few
+// rivers rise more than about 30 m at a gauge (common practice), so a
+// wider span most often means gauge heights written in centimetres or
+// another unit than the headers or --units say.
+const (
+	MaxGaugedSpan     = 50.0
+	MaxGaugedSpanFeet = 160.0
+)
+
+// stageSpanWarning warns when the gauge heights of gs span more than a
+// river rises at a gauge (MaxGaugedSpan), naming the lowest and highest.
+func stageSpanWarning(gs Gaugings) []string {
+	lo, hi := gs.Gaugings[0], gs.Gaugings[0]
+	for _, g := range gs.Gaugings[1:] {
+		if g.Stage < lo.Stage {
+			lo = g
+		}
+		if g.Stage > hi.Stage {
+			hi = g
+		}
+	}
+	limit, unit := MaxGaugedSpan, "m"
+	if gs.Units.Found && gs.Units.Units == rating.US {
+		limit, unit = MaxGaugedSpanFeet, "ft"
+	}
+	if hi.Stage-lo.Stage <= limit {
+		return nil
+	}
+	return []string{fmt.Sprintf("the gauge heights span %s %s (from %s at %s to %s at %s), more than any river rises at a gauge (%s %s): are they in centimetres, or another unit than the rating's?",
+		rating.PlainFigures(hi.Stage-lo.Stage, 4), unit, rating.PlainFigures(lo.Stage, 4), lo.Source,
+		rating.PlainFigures(hi.Stage, 4), hi.Source, rating.PlainFigures(limit, 3), unit)}
+}
+
+// Two gaugings this close in time, stage and discharge are most likely
+// one measurement entered twice (common practice: a crew does not repeat
+// a measurement to the same figures within a visit).
+const (
+	twinWithin        = 3 * time.Hour
+	twinStage         = 0.005 // length unit
+	twinDischargeFrac = 0.001 // of the discharge
+)
+
+// twinGaugingWarnings warns of pairs of gaugings a few hours apart with
+// the same gauge height and discharge to the figures written: an entry
+// copied twice, which would count twice in a fit.
+func twinGaugingWarnings(gs []gauged.Gauging) []string {
+	order := make([]int, len(gs))
+	for i := range order {
+		order[i] = i
+	}
+	slices.SortStableFunc(order, func(i, j int) int { return gs[i].Time.Compare(gs[j].Time) })
+	var out []string
+	for k, i := range order {
+		for _, j := range order[k+1:] {
+			a, b := gs[i], gs[j]
+			dt := b.Time.Sub(a.Time)
+			if dt > twinWithin {
+				break
+			}
+			if a.Exclude != "" || b.Exclude != "" || math.Abs(a.Stage-b.Stage) > twinStage ||
+				math.Abs(a.Discharge-b.Discharge) > twinDischargeFrac*math.Max(a.Discharge, b.Discharge) {
+				continue
+			}
+			out = append(out, fmt.Sprintf("the gaugings of %s and %s, %d minutes apart, have the same gauge height and discharge: one measurement entered twice? (exclude one, or it counts twice)",
+				a.Source, b.Source, int(dt.Round(time.Minute)/time.Minute)))
+		}
+	}
+	return out
 }
 
 // gaugingCols are the column indices of a gaugings table (-1 for an

@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -169,4 +170,45 @@ func FuzzParseGaugings(f *testing.F) {
 			}
 		}
 	})
+}
+
+// TestGaugingPlausibilityWarnings: gauge heights spanning more than any
+// river rises at a gauge (gauge heights in cm read as m), and one
+// measurement entered twice, are warned of; ordinary gaugings are not.
+// The limits are common practice (see MaxGaugedSpan, twinWithin).
+func TestGaugingPlausibilityWarnings(t *testing.T) {
+	const head = "time,gauge_height%s,discharge,exclude\n"
+	for _, tc := range []struct {
+		name, unit, rows string
+		want             []string // substrings of the one warning expected
+	}{
+		{"ordinary", "", "2024-03-05T10:00,0.62,1.2,\n2024-06-01T10:00,3.35,60.1,\n", nil},
+		{"centimetres", "", "2024-03-05T10:00,62,1.2,\n2024-06-01T10:00,335,60.1,\n",
+			[]string{"span 273 m (from 62 at g.csv:2 to 335 at g.csv:3)", "centimetres"}},
+		{"feet wide but plausible", " (ft)", "2024-03-05T10:00,2,120,\n2024-06-01T10:00,102,9100,\n", nil},
+		{"feet too wide", " (ft)", "2024-03-05T10:00,2,120,\n2024-06-01T10:00,202,9100,\n",
+			[]string{"span 200 ft", "(160 ft)"}},
+		{"entered twice", "", "2024-03-05T10:00,1.251,4.50,\n2024-03-05T10:45,1.253,4.50,\n",
+			[]string{"g.csv:2 and g.csv:3, 45 minutes apart, have the same gauge height and discharge"}},
+		{"entered twice out of order", "", "2024-03-05T10:45,1.253,4.50,\n2024-01-01T10:00,0.9,2.0,\n2024-03-05T10:00,1.251,4.50,\n",
+			[]string{"g.csv:4 and g.csv:2, 45 minutes apart"}},
+		{"repeat with another discharge", "", "2024-03-05T10:00,1.251,4.50,\n2024-03-05T10:45,1.253,4.62,\n", nil},
+		{"next day", "", "2024-03-05T10:00,1.251,4.50,\n2024-03-06T10:00,1.251,4.50,\n", nil},
+		{"one excluded", "", "2024-03-05T10:00,1.251,4.50,\n2024-03-05T10:45,1.253,4.50,copied row\n", nil},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			gs, err := ParseGaugings(strings.NewReader(fmt.Sprintf(head, tc.unit)+tc.rows), "g.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if want := min(1, len(tc.want)); len(gs.Warnings) != want { // each case is warned once or not at all
+				t.Fatalf("warnings %q, want %d", gs.Warnings, want)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(strings.Join(gs.Warnings, "\n"), w) {
+					t.Errorf("warnings %q: want %q", gs.Warnings, w)
+				}
+			}
+		})
+	}
 }
