@@ -261,7 +261,7 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	}
 	r.cm = t.Column(ColMark)
 	r.cnote = t.Column(ColNote)
-	return r, nil
+	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
 }
 
 // add records an error at a cell.
