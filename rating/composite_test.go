@@ -156,35 +156,106 @@ func TestCompositeWalls(t *testing.T) {
 	}
 }
 
-// A main channel that the split cuts into four or more strips whose n goes
-// back and forth (turning at least twice) is warned of; a pool beside a
-// bar (three strips, one turn), a channel whose n only rises, overbanks
-// and walls are not. The n values are invented patterns.
-func TestAlternatingChannelWarning(t *testing.T) {
-	strips := func(r subdivide.Region, ns ...float64) []subdivide.Subsection {
-		var out []subdivide.Subsection
-		for i, n := range ns {
-			out = append(out, subdivide.Subsection{From: float64(i), To: float64(i + 1), N: n, Region: r})
-		}
-		return out
+// alternatingBed is an invented main channel 12 m wide surveyed at every
+// metre between its bank tops (at 11.0 m): a bank face, a gravel bar, a
+// pool, a bank face.
+var alternatingBed = []float64{11.0, 10.4, 10.0, 9.9, 9.9, 10.0, 9.6, 9.2, 9.0, 9.2, 9.7, 10.4, 11.0}
+
+// bedSection is a section of the ground z (stations 0, 1, 2, ...) with n
+// per segment, banks at its ends unless banks gives them.
+func bedSection(t *testing.T, z, n []float64, banks ...float64) *subdivide.Profile {
+	t.Helper()
+	sec := subdivide.Section{N: n, HasBanks: true, LeftBank: 0, RightBank: float64(len(z) - 1)}
+	for i, v := range z {
+		sec.Points = append(sec.Points, subdivide.Point{Station: float64(i), Elevation: v})
 	}
-	wall := subdivide.Subsection{From: 2, To: 2, N: 0.1, Region: subdivide.Channel, Wall: 1}
+	if len(banks) == 2 {
+		sec.LeftBank, sec.RightBank = banks[0], banks[1]
+	}
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// repeatN returns n each written over k segments in turn.
+func repeatN(k int, n ...float64) []float64 {
+	var out []float64
+	for _, v := range n {
+		for range k {
+			out = append(out, v)
+		}
+	}
+	return out
+}
+
+// A main channel whose n is written point by point (six strips or more,
+// going back and forth, n changing at more than half of the points inside
+// the channel) is warned of; the channel zoned by its bed (bank, bar,
+// pool, bank), even surveyed with one segment a zone, is not, nor a
+// channel whose n only rises, nor alternating overbanks or walls. The n
+// values are invented patterns.
+func TestAlternatingChannelWarning(t *testing.T) {
+	flat := func(n int) []float64 { return repeatN(n+1, 1)[:n+1] }
+	pointByPoint := repeatN(1, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044)
+	wall := []subdivide.Subsection{{From: 0, To: 1, N: 0.03}, {From: 1, To: 2, N: 0.04}, {From: 2, To: 2, N: 0.1, Wall: 1},
+		{From: 2, To: 3, N: 0.03}, {From: 3, To: 4, N: 0.04}, {From: 4, To: 5, N: 0.03}}
 	for _, tc := range []struct {
 		name string
+		p    *subdivide.Profile // the section, or nil for subs and pts
 		subs []subdivide.Subsection
+		pts  []subdivide.Point
 		want string // "" for no warning
 	}{
-		{"n point by point", strips(subdivide.Channel, 0.038, 0.042, 0.038, 0.042, 0.038, 0.042), "split into 6 subsections whose n goes back and forth (0.038 to 0.042)"},
-		{"two turns in four", strips(subdivide.Channel, 0.03, 0.04, 0.03, 0.04), "split into 4 subsections"},
-		{"pool between bars", strips(subdivide.Channel, 0.035, 0.033, 0.035), ""},
-		{"rising only", strips(subdivide.Channel, 0.03, 0.035, 0.04, 0.045), ""},
-		{"one turn in five", strips(subdivide.Channel, 0.03, 0.035, 0.04, 0.035, 0.03), ""},
-		{"overbank alternating", strips(subdivide.LeftOverbank, 0.05, 0.06, 0.05, 0.06), ""},
-		{"walls are no strips", append(strips(subdivide.Channel, 0.03, 0.04, 0.03), wall), ""},
+		{"n point by point", bedSection(t, alternatingBed, pointByPoint), nil, nil, "split into 12 subsections whose n goes back and forth (0.036 to 0.044)"},
+		{"bank bar pool bank, zoned", bedSection(t, alternatingBed, repeatN(1, 0.040, 0.040, 0.032, 0.032, 0.032, 0.032, 0.045, 0.045, 0.045, 0.045, 0.040, 0.040)), nil, nil, ""},
+		{"bank bar pool bank, a segment a zone", bedSection(t, flat(4), []float64{0.040, 0.032, 0.045, 0.040}), nil, nil, ""},
+		{"two threads and a bar, a segment a zone", bedSection(t, flat(5), []float64{0.040, 0.045, 0.032, 0.045, 0.040}), nil, nil, ""},
+		{"six zones of two segments", bedSection(t, flat(12), repeatN(2, 0.040, 0.032, 0.045, 0.032, 0.045, 0.040)), nil, nil, ""},
+		{"six strips point by point", bedSection(t, flat(6), []float64{0.03, 0.04, 0.03, 0.04, 0.03, 0.04}), nil, nil, "split into 6 subsections"},
+		{"rising only", bedSection(t, flat(6), []float64{0.03, 0.032, 0.035, 0.04, 0.045, 0.05}), nil, nil, ""},
+		{"one turn in seven", bedSection(t, flat(7), []float64{0.03, 0.035, 0.04, 0.045, 0.04, 0.035, 0.03}), nil, nil, ""},
+		{"overbank alternating", bedSection(t, flat(8), []float64{0.05, 0.06, 0.05, 0.06, 0.05, 0.06, 0.035, 0.035}, 6, 8), nil, nil, ""},
+		{"walls are no strips", nil, wall, bedSection(t, flat(5), []float64{1, 1, 1, 1, 1}).Points(), ""},
+		{"no ground line", nil, bedSection(t, flat(6), []float64{0.03, 0.04, 0.03, 0.04, 0.03, 0.04}).Subsections(), nil, ""},
 	} {
-		got := AlternatingChannelWarning(tc.subs)
+		if tc.p != nil {
+			tc.subs, tc.pts = tc.p.Subsections(), tc.p.Points()
+		}
+		got := AlternatingChannelWarning(tc.subs, tc.pts)
 		if (tc.want == "") != (got == "") || !strings.Contains(got, tc.want) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
+	}
+}
+
+// The conveyance the split adds at bankfull over the channel taken whole
+// with one composite n (Horton–Einstein, the warning's remedy), on the
+// invented channel alternatingBed: zoned by its bed it is what
+// subdivision is for (a pool and a bar of their own depths, Chow 1959,
+// section 6-4); n written point by point rates the channel slice by
+// slice and adds more. The figures are this project's computation
+// (Manning, SI), kept to 0.1 %.
+func TestAlternatingChannelConveyance(t *testing.T) {
+	extra := func(n []float64) float64 {
+		w, err := bedSection(t, alternatingBed, n).At(11.0, subdivide.Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		split := 0.0
+		var p, a, ns []float64
+		for _, s := range w.Subs {
+			split += Conveyance(s.Area, s.WettedPerimeter, s.N, SI)
+			p, a, ns = append(p, s.WettedPerimeter), append(a, s.Area), append(ns, s.N)
+		}
+		whole := Conveyance(w.Area, w.WettedPerimeter, CompositeN(HortonEinstein, p, a, ns), SI)
+		return 100 * (split/whole - 1)
+	}
+	zoned := extra(repeatN(1, 0.040, 0.040, 0.032, 0.032, 0.032, 0.032, 0.045, 0.045, 0.045, 0.045, 0.040, 0.040))
+	byPoint := extra(repeatN(1, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044, 0.036, 0.044))
+	t.Logf("split over whole at bankfull: zoned %+.1f %%, n point by point %+.1f %%", zoned, byPoint)
+	if math.Abs(zoned-9.6) > 0.1 || math.Abs(byPoint-14.5) > 0.1 {
+		t.Errorf("split adds %.2f %% zoned and %.2f %% point by point, want 9.6 and 14.5", zoned, byPoint)
 	}
 }

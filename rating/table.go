@@ -224,10 +224,22 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
-	if w := AlternatingChannelWarning(t.Subsections); w != "" && opt.Composite == Split {
+	if w := AlternatingChannelWarning(t.Subsections, groundPoints(g)); w != "" && opt.Composite == Split {
 		t.Warnings = append(t.Warnings, w)
 	}
 	return t, nil
+}
+
+// groundPoints returns the ground line of a geometry that has one (a
+// surveyed section, a shape, either with its n scaled), else nil.
+func groundPoints(g subdivide.Geometry) []subdivide.Point {
+	switch p := g.(type) {
+	case ScaledN:
+		return groundPoints(p.Geometry)
+	case interface{ Points() []subdivide.Point }:
+		return p.Points()
+	}
+	return nil
 }
 
 // ExtensionWarnings words the warnings for stages above the section's ends.

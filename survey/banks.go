@@ -71,22 +71,49 @@ func readBankMark(mark string) (bankSide, bool) {
 }
 
 // bankLike reports a mark that is not a bank mark but looks as if it were
-// meant as one or as a bank's other feature: it holds the word bank
-// (bankfull, overbank, left bank pin), or a word like lb, rb or tob.
+// meant as one or as a bank's other feature, and so is warned of. Its
+// words (bankWord's, split at every character not a letter, so "LB2" is
+// lb) must hold one naming a bank (see bankToken: bank, bankfull,
+// overbank, lb, rb, tob, ...). A bank word inside another word
+// (embankment) is not one. A mark naming a bank only as the place of a
+// survey point (see placeWords: RB pin, stake on the left bank, BM LB)
+// is not warned, unless it says top as well (TOB pin, top of bank pin),
+// as a crew writes for the top of bank.
 func bankLike(mark string) bool {
 	w := bankWord(mark)
 	if _, ok := readBankMark(mark); ok || w == "" {
 		return false
 	}
-	if strings.Contains(w, "bank") {
+	words := strings.FieldsFunc(w, func(r rune) bool { return !('a' <= r && r <= 'z') })
+	bank, top, place := false, false, false
+	for i, f := range words {
+		bank = bank || bankToken(f)
+		top = top || slices.Contains([]string{"top", "tob", "ltob", "rtob", "lbt", "rbt"}, f) || (bankToken(f) && strings.Contains(f, "top"))
+		place = place || slices.Contains(placeWords(), f) || (f == "bench" && i+1 < len(words) && words[i+1] == "mark")
+	}
+	return bank && (top || !place)
+}
+
+// bankToken reports a word (lower case, letters alone) that names a bank:
+// the abbreviations crews write (lb, rb, tob, ltob, rtob, lbt, rbt, and
+// bnk for bank), or a word beginning or ending with bank (bank, banks,
+// bankfull, banktop, overbank, leftbank, riverbank), but not a word that
+// holds bank only inside it (embankment).
+func bankToken(f string) bool {
+	if slices.Contains([]string{"lb", "rb", "tob", "ltob", "rtob", "lbt", "rbt", "lbank", "rbank", "bnk", "lbnk", "rbnk"}, f) {
 		return true
 	}
-	for _, f := range strings.FieldsFunc(w, func(r rune) bool { return !('a' <= r && r <= 'z') }) {
-		if slices.Contains([]string{"lb", "rb", "tob", "ltob", "rtob", "lbank", "rbank"}, f) {
-			return true
-		}
-	}
-	return false
+	return strings.HasPrefix(f, "bank") || strings.HasSuffix(f, "bank") || strings.HasSuffix(f, "banks")
+}
+
+// placeWords are the words of a mark that make it the description of a
+// survey point at a bank rather than a bank mark (common practice of
+// field books): a pin, a stake, a peg, a benchmark (bm, benchmark, bench
+// mark), a rebar, a nail, a spike, a hub, a monument, a reference or
+// control point, an instrument setup, a tree or post a point is on.
+func placeWords() []string {
+	return []string{"pin", "pins", "stake", "stakes", "peg", "pegs", "bm", "benchmark", "rebar", "nail", "spike", "hub",
+		"monument", "rp", "cp", "control", "reference", "setup", "instrument", "tree", "post", "bolt", "marker"}
 }
 
 // ErrBankSide is the cause of a bank mark naming one side (left bank, rb)

@@ -131,3 +131,31 @@ func TestReadmeBankWords(t *testing.T) {
 		}
 	}
 }
+
+// A mark that a crew may have meant for the top of a bank, or that names
+// another feature of a bank, is warned of; a word holding bank inside it
+// and a survey point described by the bank it stands on are not.
+func TestBankLike(t *testing.T) {
+	warned := []string{
+		"bankfull", "overbank", "LB toe", "toe of bank", "top bank", "top of the bank", "bank top left", "TOB L",
+		"TOB-L", "LBT", "rt bank", "L bank", "bank (left)", "bank left", "left bank 2", "bank-top-left",
+		"top-of-bank?", "riverbank", "banks", "top of bnk", "RB1", "TOB pin", "top of bank pin", "left bank top stake",
+		"lbank", "R.Bank",
+	}
+	quiet := []string{
+		"", "thalweg", "water edge", "left pin", "lbs", "embankment", "road embankment", "Embankment toe",
+		"RB pin", "pin RB", "left bank pin", "LB stake", "stake on the right bank", "BM on RB", "benchmark LB",
+		"bench mark, left bank", "peg lb", "rebar RB", "nail in RB tree", "RB hub", "RB control point", "RB setup",
+		"bank", "LB", "r. b.", "left top of bank", "L TOB", "banktop", // bank marks: read, not warned
+	}
+	for _, m := range warned {
+		if !bankLike(m) {
+			t.Errorf("%q not warned of", m)
+		}
+	}
+	for _, m := range quiet {
+		if bankLike(m) {
+			t.Errorf("%q warned of", m)
+		}
+	}
+}

@@ -76,12 +76,6 @@ type bookFacts struct {
 	strings int64
 }
 
-// unsavedCells are the cells of a sheet holding a formula with no saved
-// value: the first (1-based column and row) and how many.
-type unsavedCells struct {
-	col, row, count int
-}
-
 // cellMark tells how a cell's raw value differs from what a spreadsheet
 // program shows of it.
 type cellMark uint8
@@ -103,26 +97,28 @@ const (
 type cellAt struct{ row, col int64 }
 
 // sheetScan is what the check of a workbook's zip archive found of one
-// sheet: its formula cells with no saved value, and its cells whose raw
-// value is not what is shown: booleans and percents cell by cell, dates
-// (which may fill a column of a million readings) as runs of rows.
+// sheet: its formula cells with no saved value (which a program writing
+// formulas without computing them may leave in a whole column), and its
+// cells whose raw value is not what is shown: booleans and percents cell
+// by cell, dates (which may fill a column of a million readings); the
+// unsaved and date cells as runs of rows.
 type sheetScan struct {
-	unsaved unsavedCells
+	unsaved cellRuns
 	marks   map[cellAt]cellMark
-	dates   dateCells
+	dates   cellRuns
 }
 
-// dateCells holds the date cells of a sheet: for each 1-based column,
-// its runs of consecutive rows, in rising order.
-type dateCells map[int64][]rowRun
+// cellRuns holds cells of a sheet: for each 1-based column, its runs of
+// consecutive rows, in rising order.
+type cellRuns map[int64][]rowRun
 
 // rowRun is the rows first to last (1-based, inclusive).
 type rowRun struct{ first, last int64 }
 
-// add notes a date cell; the rows of a column must come in rising order.
-func (d *dateCells) add(row, col int64) {
+// add notes a cell; the rows of a column must come in rising order.
+func (d *cellRuns) add(row, col int64) {
 	if *d == nil {
-		*d = dateCells{}
+		*d = cellRuns{}
 	}
 	runs := (*d)[col]
 	if n := len(runs); n > 0 && runs[n-1].last+1 >= row {
@@ -132,8 +128,8 @@ func (d *dateCells) add(row, col int64) {
 	(*d)[col] = append(runs, rowRun{row, row})
 }
 
-// has reports a date cell at row and col.
-func (d dateCells) has(row, col int64) bool {
+// has reports a cell at row and col.
+func (d cellRuns) has(row, col int64) bool {
 	runs := d[col]
 	i := sort.Search(len(runs), func(i int) bool { return runs[i].last >= row })
 	return i < len(runs) && runs[i].first <= row
@@ -192,7 +188,7 @@ func scanEverySheet(zr *zip.Reader, facts bookFacts) error {
 			if err != nil {
 				return err
 			}
-			if sc.unsaved.count > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
+			if len(sc.unsaved) > 0 || len(sc.marks) > 0 || len(sc.dates) > 0 {
 				return fmt.Errorf("%w: %w", ErrWorkbookZip, perr)
 			}
 		}
@@ -388,7 +384,6 @@ func scanSheet(f *zip.File, facts bookFacts) (sheetScan, error) {
 // scanTags is scanSheet's tag scan.
 func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 	var out sheetScan
-	u := &out.unsaved
 	rc, err := f.Open()
 	if err != nil {
 		return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
@@ -499,10 +494,7 @@ func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 			value = value || !empty || text
 		case name == "c" && tag.end:
 			if inCell && formula && !value {
-				if u.count == 0 {
-					u.col, u.row = int(col), int(row)
-				}
-				u.count++
+				out.unsaved.add(row, col)
 			}
 			inCell = false
 		}

@@ -334,18 +334,18 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	// Put every per-point column in station order.
 	n := len(order)
 	sv := &r.sv
-	pts, ns, rows, labels, notes := make([]subdivide.Point, n), make([]float64, n), make([]int, n), make([]string, n), make([]string, n)
+	pts, ns, rows, labels, notes, marks := make([]subdivide.Point, n), make([]float64, n), make([]int, n), make([]string, n), make([]string, n), make([]string, n)
 	pr.Easting, pr.Northing = make([]float64, n), make([]float64, n)
 	offsets, recs := make([]float64, n), make([]Record, n)
 	where := make([]int, n) // where[i] is the new index of survey point i
 	for k, i := range order {
 		pts[k] = subdivide.Point{Station: st[i], Elevation: sv.Section.Points[i].Elevation}
-		ns[k], rows[k], labels[k], notes[k] = r.ns[i], sv.Rows[i], sv.Labels[i], sv.Notes[i]
+		ns[k], rows[k], labels[k], notes[k], marks[k] = r.ns[i], sv.Rows[i], sv.Labels[i], sv.Notes[i], sv.Marks[i]
 		pr.Easting[k], pr.Northing[k], offsets[k], recs[k] = r.east[i], r.north[i], pr.Offsets[i], r.records[i]
 		where[i] = k
 	}
 	pr.Offsets = offsets
-	sv.Section.Points, r.ns, sv.Rows, sv.Labels, sv.Notes = pts, ns, rows, labels, notes
+	sv.Section.Points, r.ns, sv.Rows, sv.Labels, sv.Notes, sv.Marks = pts, ns, rows, labels, notes, marks
 	for j := range r.bankAt {
 		r.bankAt[j] = where[r.bankAt[j]]
 	}

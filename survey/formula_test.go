@@ -8,6 +8,7 @@ import (
 	"maps"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strings"
 	"testing"
@@ -131,10 +132,10 @@ func TestFormulaWithoutSavedValue(t *testing.T) {
 		read func(path string) error
 		at   string // where the unsaved formula is, "" when none is read
 	}{
-		{"table", func(p string) error { _, err := ReadTable(p, "xs"); return err }, "field.xlsx['xs']!B3"},
-		{"first sheet", func(p string) error { _, err := ReadTable(p, ""); return err }, "field.xlsx['xs']!B3"},
-		{"section", func(p string) error { _, err := ReadSection(p, "xs", SectionOptions{}); return err }, "field.xlsx['xs']!B3"},
-		{"stage record", func(p string) error { _, err := ReadStageRecord(p, StageRecordOptions{Sheet: "stages"}); return err }, "field.xlsx['stages']!B2"},
+		{"table", func(p string) error { return tableSection(ReadTable(p, "xs")) }, "field.xlsx['xs']!B3: elevation"},
+		{"first sheet", func(p string) error { return tableSection(ReadTable(p, "")) }, "field.xlsx['xs']!B3: elevation"},
+		{"section", func(p string) error { _, err := ReadSection(p, "xs", SectionOptions{}); return err }, "field.xlsx['xs']!B3: elevation"},
+		{"stage record", func(p string) error { _, err := ReadStageRecord(p, StageRecordOptions{Sheet: "stages"}); return err }, "field.xlsx['stages']!B2: stage"},
 		{"another sheet", func(p string) error { _, err := ReadSection(p, "clean", SectionOptions{}); return err }, ""},
 		{"from bytes", func(p string) error {
 			f, err := os.Open(p)
@@ -142,9 +143,8 @@ func TestFormulaWithoutSavedValue(t *testing.T) {
 				return err
 			}
 			defer f.Close()
-			_, err = ParseWorkbook(f, "field.xlsx", "xs")
-			return err
-		}, "field.xlsx['xs']!B3"},
+			return tableSection(ParseWorkbook(f, "field.xlsx", "xs"))
+		}, "field.xlsx['xs']!B3: elevation"},
 	} {
 		err := tc.read(unsaved)
 		switch {
@@ -189,14 +189,23 @@ func TestFormulaEmptyValue(t *testing.T) {
 			end := j + bytes.Index(b[j:], []byte("</c>")) + len("</c>")
 			return append(append(append([]byte(nil), b[:i]...), tc.cell...), b[end:]...)
 		})
-		_, err := ParseWorkbook(bytes.NewReader(data), "field.xlsx", "xs")
+		err := tableSection(ParseWorkbook(bytes.NewReader(data), "field.xlsx", "xs"))
 		switch {
-		case tc.unsaved && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), "field.xlsx['xs']!B3: a formula with no saved value")):
+		case tc.unsaved && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), "field.xlsx['xs']!B3: elevation: a formula with no saved value")):
 			t.Errorf("%s: %v, want ErrFormulaNoValue at B3", tc.name, err)
-		case !tc.unsaved && err != nil:
-			t.Errorf("%s: %v", tc.name, err)
+		case !tc.unsaved && errors.Is(err, ErrFormulaNoValue):
+			t.Errorf("%s: %v", tc.name, err) // an empty text result reads blank: another error, if any
 		}
 	}
+}
+
+// tableSection reads a survey from a table read (or its error).
+func tableSection(t *Table, err error) error {
+	if err != nil {
+		return err
+	}
+	_, err = SectionFromTable(t, SectionOptions{})
+	return err
 }
 
 func readFile(t *testing.T, path string) []byte {
@@ -252,18 +261,17 @@ func FuzzScanSheet(f *testing.F) {
 			}
 			return
 		}
-		if u := sc.unsaved; u.count < 0 || (u.count > 0 && (u.col < 1 || u.row < 1)) {
-			t.Fatalf("unsaved cells %+v", u)
-		}
 		for at := range sc.marks {
 			if at.row < 1 || at.col < 1 {
 				t.Fatalf("a cell marked at row %d column %d", at.row, at.col)
 			}
 		}
-		for col, runs := range sc.dates {
-			for i, r := range runs {
-				if col < 1 || r.first < 1 || r.last < r.first || (i > 0 && r.first <= runs[i-1].last+1) {
-					t.Fatalf("date cells of column %d in runs %v", col, runs)
+		for what, cells := range map[string]cellRuns{"date": sc.dates, "unsaved": sc.unsaved} {
+			for col, runs := range cells {
+				for i, r := range runs {
+					if col < 1 || r.first < 1 || r.last < r.first || (i > 0 && r.first <= runs[i-1].last+1) {
+						t.Fatalf("%s cells of column %d in runs %v", what, col, runs)
+					}
 				}
 			}
 		}
@@ -343,6 +351,131 @@ func BenchmarkSmallSheetBesideLarge(b *testing.B) {
 	for b.Loop() {
 		if _, err := ReadSection(p, "xs", SectionOptions{}); err != nil {
 			b.Fatal(err)
+		}
+	}
+}
+
+// unsavedBook writes a workbook of one sheet "xs": the rows given (from
+// A1), and a formula with no saved value in each cell of formulas (its
+// value dropped, as a program that does not compute formulas leaves it).
+func unsavedBook(t *testing.T, rows [][]any, formulas ...string) []byte {
+	t.Helper()
+	f := excelize.NewFile()
+	defer f.Close()
+	f.SetSheetName("Sheet1", "xs")
+	for i, r := range rows {
+		cell, _ := excelize.CoordinatesToCellName(1, i+1)
+		f.SetSheetRow("xs", cell, &r)
+	}
+	for _, c := range formulas {
+		if err := f.SetCellFormula("xs", c, "A2*2"); err != nil {
+			t.Fatal(err)
+		}
+	}
+	var buf bytes.Buffer
+	if err := f.Write(&buf); err != nil {
+		t.Fatal(err)
+	}
+	return rewriteZip(t, buf.Bytes(), func(name string, b []byte) []byte {
+		return regexp.MustCompile(`<f>A2\*2</f><v>[^<]*</v>`).ReplaceAll(b, []byte("<f>A2*2</f>"))
+	})
+}
+
+// A formula with no saved value matters only where it is read: in a
+// column the reader reads it is refused at its cell, the column named
+// (it would read as blank: an elevation lost, an n carried from the row
+// above, a bank mark gone); in a column it ignores (a crew's check or
+// notes) or beyond the header it is of no matter. In the header or the
+// site block above it, both read, it is refused.
+func TestFormulaOnlyInColumnsRead(t *testing.T) {
+	t.Parallel()
+	survey := [][]any{
+		{"station", "elevation", "n", "mark", "note", "notes", "check"},
+		{0, 3.2, 0.040, "lb", "pin"}, {1, 2.1}, {2, 2.0}, {3, 3.1, nil, "rb"},
+	}
+	coords := [][]any{
+		{"easting", "northing", "elevation", "check"},
+		{500, 700, 3.2}, {501, 700, 2.1}, {502, 700, 2.0}, {503, 700, 3.1},
+	}
+	gaugings := [][]any{
+		{"time", "stage", "discharge", "crew"},
+		{"2024-03-01T10:00:00Z", 1.2, 3.4}, {"2024-03-02T10:00:00Z", 1.5, 5.1},
+	}
+	sited := append([][]any{{"site", nil}}, survey...)
+	parse := func(data []byte) error {
+		_, err := ParseWorkbook(bytes.NewReader(data), "field.xlsx", "xs")
+		return err
+	}
+	section := func(data []byte) error {
+		_, err := SectionFromTable(mustTable(t, data), SectionOptions{})
+		return err
+	}
+	for _, tc := range []struct {
+		name     string
+		rows     [][]any
+		formulas []string
+		read     func([]byte) error
+		at       string // where the error is, "" when the sheet reads
+	}{
+		{"station", append(slices.Clone(survey), []any{nil}), []string{"A6"}, section, "A6: station"}, // a row otherwise blank: a point lost
+		{"elevation", survey, []string{"B3"}, section, "B3: elevation"},
+		{"n carried", survey, []string{"C3"}, section, "C3: n"},
+		{"mark", survey, []string{"D4"}, section, "D4: mark"},
+		{"note", survey, []string{"E3"}, section, "E3: note"},
+		{"first of two read", survey, []string{"D5", "C4", "G2"}, section, "C4: n: a formula with no saved value: open and save the workbook in a spreadsheet program (2 such cells in the columns read)"},
+		{"notes ignored", survey, []string{"F3", "F4", "F5"}, section, ""},
+		{"check ignored", survey, []string{"G2", "G3", "G4", "G5"}, section, ""},
+		{"beyond the header", survey, []string{"J3"}, section, ""},
+		{"header", survey, []string{"H1"}, parse, "H1: a formula with no saved value"},
+		{"site block", sited, []string{"B1"}, parse, "B1: a formula with no saved value"},
+		{"easting", append(slices.Clone(coords), []any{nil}), []string{"A6"}, section, "A6: easting"},
+		{"northing", coords, []string{"B3"}, section, "B3: northing"},
+		{"coordinate check ignored", coords, []string{"D3", "D4"}, section, ""},
+		{"gauged stage", gaugings, []string{"B3"}, func(data []byte) error { _, err := GaugingsFromTable(mustTable(t, data)); return err }, "B3: stage"},
+		{"gauging crew ignored", gaugings, []string{"D2"}, func(data []byte) error { _, err := GaugingsFromTable(mustTable(t, data)); return err }, ""},
+	} {
+		data := unsavedBook(t, tc.rows, tc.formulas...)
+		err := tc.read(data)
+		switch {
+		case tc.at == "" && err != nil:
+			t.Errorf("%s: %v", tc.name, err)
+		case tc.at != "" && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), "field.xlsx['xs']!"+tc.at)):
+			t.Errorf("%s: %v, want ErrFormulaNoValue at %s", tc.name, err, tc.at)
+		}
+	}
+}
+
+// mustTable reads the sheet "xs" of a workbook as field.xlsx.
+func mustTable(t *testing.T, data []byte) *Table {
+	t.Helper()
+	tb, err := ParseWorkbook(bytes.NewReader(data), "field.xlsx", "xs")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return tb
+}
+
+// A stage record reads a formula with no saved value as the tables do:
+// refused in its time, stage and quality columns, of no matter in another.
+func TestStageRecordFormulaColumns(t *testing.T) {
+	t.Parallel()
+	rows := [][]any{{"time", "stage", "logger"}, {"2024-03-01T10:00:00Z", 1.2}, {"2024-03-01T11:00:00Z", 1.3}}
+	for _, tc := range []struct {
+		cell, at string
+	}{
+		{"C2", ""},
+		{"B3", "B3: stage"},
+	} {
+		path := filepath.Join(t.TempDir(), "field.xlsx")
+		if err := os.WriteFile(path, unsavedBook(t, rows, tc.cell), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadStageRecord(path, StageRecordOptions{})
+		switch {
+		case tc.at == "" && err != nil:
+			t.Errorf("%s: %v", tc.cell, err)
+		case tc.at != "" && (!errors.Is(err, ErrFormulaNoValue) || !strings.Contains(err.Error(), "field.xlsx['xs']!"+tc.at)):
+			t.Errorf("%s: %v, want ErrFormulaNoValue at %s", tc.cell, err, tc.at)
 		}
 	}
 }

@@ -230,7 +230,7 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	}
 	c.quality, c.note = t.Column(ColGaugingQuality), t.Column(ColNote)
 	c.uncertainty, c.exclude = t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
-	return c, nil
+	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude)
 }
 
 // gaugingReader reads the rows of a gaugings table, gathering the errors

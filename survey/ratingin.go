@@ -89,6 +89,13 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	}
 	out.Units = units
 	cv := t.Column(ColRatingValidFrom)
+	read := []int{cs, cq, cv}
+	for _, name := range ratingRowColumns() {
+		read = append(read, t.Column(name))
+	}
+	if err := t.unsavedIn(read...); err != nil {
+		return out, err
+	}
 	vf := validFromReader{t: t, col: cv}
 	periods := 0 // the rating periods of the times read, grouped as RatingTablesFromTable groups them
 	var lastFrom time.Time
@@ -163,6 +170,12 @@ func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units,
 // ratingRow reads one row of a rating table: stage and discharge, each
 // NaN when blank or bad (the error kept in c), and the hydraulics of the
 // columns given (NaN when absent).
+// ratingRowColumns are the optional columns ratingRow reads.
+func ratingRowColumns() []string {
+	return []string{"depth", "area", "wetted_perimeter", "top_width", "hydraulic_radius", "conveyance",
+		"mean_velocity", "alpha", "froude", "hydraulic_depth", "beta", "shear_stress"}
+}
+
 func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
 	opt := func(name string) float64 { return c.optional(rec, name) }
 	return rating.Row{

@@ -151,6 +151,9 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		return out, err
 	}
 	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)
+	if err := t.unsavedIn(cs, cq, cv, cx); err != nil {
+		return out, err
+	}
 	var errs errorList
 	var groups []ratingGroup
 	vf := validFromReader{t: t, col: cv, off: off}

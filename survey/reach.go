@@ -3,6 +3,7 @@ package survey
 import (
 	"errors"
 	"fmt"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -272,6 +273,9 @@ func ReachTable(t *Table, opt ReachOptions) (*Reach, error) {
 	}
 	for _, name := range append(ReachColumns()[len(required):], ReachFlowColumns()...) {
 		r.cols[name] = t.Column(name)
+	}
+	if err := t.unsavedIn(slices.Collect(maps.Values(r.cols))...); err != nil {
+		return nil, err
 	}
 	var err error
 	if r.Units, err = t.HeaderUnits(r.cols[ReachColDistance], r.cols[ReachColWSLeft], r.cols[ReachColWSRight],
@@ -750,6 +754,9 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 		return out, err
 	}
 	if out.Units, err = t.HeaderUnits(cs, cq); err != nil {
+		return out, err
+	}
+	if err := t.unsavedIn(cs, cq); err != nil {
 		return out, err
 	}
 	var errs errorList

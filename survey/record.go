@@ -153,6 +153,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	if err != nil {
 		return nil, err
 	}
+	unsaved := f.scans.done[sheet].unsaved
 	b, err := newStageBuilder(path, sheet, opt, true, f.date1904)
 	if err != nil {
 		return nil, err
@@ -180,6 +181,15 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 		}
 		if b.header == nil {
 			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
+				return nil, err
+			}
+			// A formula with no saved value is refused in the header,
+			// above it and in the columns read, as sheetTable and
+			// Table.unsavedIn refuse it.
+			if err := unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it"); err != nil {
+				return nil, err
+			}
+			if err := unsavedError(path, sheet, b.header, unsaved, int64(n)+1, MaxSheetRows, []int{b.ct, b.cs, b.cq}, "in the columns read"); err != nil {
 				return nil, err
 			}
 			continue

@@ -21,6 +21,9 @@ type Survey struct {
 	// Labels holds each point's mark other than a bank mark (one of
 	// BankWords; "" for none).
 	Labels []string
+	// Marks holds each point's mark as written (trimmed), a bank mark
+	// too: "LB" keeps the side it names (see Survey.Mark).
+	Marks []string
 	// Notes holds each point's note column ("" for none).
 	Notes []string
 	// Rows holds each point's 1-based row (line) in the file.
@@ -41,6 +44,17 @@ type Survey struct {
 	// northings (zero for a survey by station): a fact of the input, for
 	// a report's inputs, not among the warnings.
 	ProjectionNote InputNote
+}
+
+// Mark returns the mark of point i as written, a bank mark too (the
+// crew's word, "RB" or "left bank", which a survey written from this one
+// keeps so that the side it names is not lost), "" when none or when i
+// is not a point of Marks.
+func (s Survey) Mark(i int) string {
+	if i < 0 || i >= len(s.Marks) {
+		return ""
+	}
+	return s.Marks[i]
 }
 
 // SectionOptions adjust how a survey is read. The zero value reads marks.
@@ -261,7 +275,7 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	}
 	r.cm = t.Column(ColMark)
 	r.cnote = t.Column(ColNote)
-	return r, nil
+	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
 }
 
 // add records an error at a cell.
@@ -317,6 +331,7 @@ func (r *sectionReader) point(rec Record) {
 	r.ns = append(r.ns, n)
 	r.sv.Rows = append(r.sv.Rows, rec.Row)
 	mark := strings.TrimSpace(r.t.Cell(rec, r.cm))
+	r.sv.Marks = append(r.sv.Marks, mark)
 	if _, bank := readBankMark(mark); bank {
 		r.bankAt = append(r.bankAt, len(pts))
 		r.bankRows = append(r.bankRows, rec)

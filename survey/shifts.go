@@ -4,7 +4,9 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
+	"slices"
 	"strings"
 	"time"
 
@@ -108,6 +110,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 	}
 	cols[ColShiftTaper], cols[ColShiftAbrupt] = t.Column(ColShiftTaper), t.Column(ColShiftAbrupt)
 	if out.Units, err = t.HeaderUnits(cols[ColShiftStage], cols[ColShift], cols[ColShiftTaper]); err != nil {
+		return out, err
+	}
+	if err := t.unsavedIn(slices.Collect(maps.Values(cols))...); err != nil {
 		return out, err
 	}
 	var errs errorList

@@ -44,6 +44,10 @@ type Table struct {
 	// Warnings are unusual but legal facts about where the table was
 	// read (a hidden sheet named).
 	Warnings []string
+	// unsaved are the cells below the header (of a workbook sheet) that
+	// hold a formula with no saved value: each reader refuses those of
+	// the columns it reads (see unsavedIn).
+	unsaved cellRuns
 }
 
 // Record is one data row and its 1-based line (CSV) or row (sheet).
@@ -249,18 +253,87 @@ func openWorkbookBytes(data []byte, name string) (*inputBook, error) {
 // would read as blank.
 var ErrFormulaNoValue = errors.New("a formula with no saved value: open and save the workbook in a spreadsheet program")
 
-// unsavedError is the ParseError at the first cell of a sheet holding a
-// formula with no saved value, nil when the sheet has none.
-func (f *inputBook) unsavedError(path, sheet string) error {
-	u := f.scans.done[sheet].unsaved
-	if u.count == 0 {
+// span returns how many cells of column col (1-based) lie in the rows
+// from to to (inclusive) and the first of their rows (0 when none).
+func (d cellRuns) span(col, from, to int64) (first, n int64) {
+	for _, r := range d[col] {
+		a, b := max(r.first, from), min(r.last, to)
+		if a > b {
+			continue
+		}
+		if first == 0 {
+			first = a
+		}
+		n += b - a + 1
+	}
+	return first, n
+}
+
+// unsavedError is the ParseError (ErrFormulaNoValue) at the first cell,
+// by row then column, of the rows from to to of a sheet holding a formula
+// with no saved value (unsaved), in one of cols (0-based; a negative one,
+// an absent column, is passed over), or in any column when cols is nil;
+// nil when there is none. where tells in the message where the count of
+// such cells was taken ("in the columns read"). header names the
+// columns.
+func unsavedError(file, sheet string, header []string, unsaved cellRuns, from, to int64, cols []int, where string) error {
+	if len(unsaved) == 0 {
+		return nil
+	}
+	var at cellAt
+	var count int64
+	seen := map[int64]bool{}
+	look := func(c int64) {
+		if seen[c] {
+			return
+		}
+		seen[c] = true
+		first, n := unsaved.span(c, from, to)
+		if n == 0 {
+			return
+		}
+		count += n
+		if at.row == 0 || first < at.row || (first == at.row && c < at.col) {
+			at = cellAt{first, c}
+		}
+	}
+	if cols == nil {
+		for c := range unsaved {
+			look(c)
+		}
+	}
+	for _, c := range cols {
+		if c >= 0 {
+			look(int64(c) + 1)
+		}
+	}
+	if count == 0 {
 		return nil
 	}
 	err := ErrFormulaNoValue
-	if u.count > 1 {
-		err = fmt.Errorf("%w (%d such cells in the sheet)", ErrFormulaNoValue, u.count)
+	if count > 1 {
+		err = fmt.Errorf("%w (%d such cells %s)", ErrFormulaNoValue, count, where)
 	}
-	return &ParseError{File: path, Sheet: sheet, Row: u.row, Column: u.col, Err: err}
+	pe := &ParseError{File: file, Sheet: sheet, Row: int(at.row), Column: int(at.col), Err: err}
+	if int(at.col) <= len(header) {
+		pe.Name = header[at.col-1]
+	}
+	return pe
+}
+
+// unsavedIn is the ParseError (ErrFormulaNoValue) at the first cell below
+// the header, in one of the columns cols (0-based, a negative one passed
+// over), that holds a formula with no saved value, nil when none does. A
+// reader of a workbook table calls it with every column it reads: such a
+// cell would read as blank, and a blank read (an elevation, an n carried
+// from the row above, a mark) is a wrong one; in a column it ignores
+// (a crew's own check or notes) the cell is of no matter. A CSV table has
+// none.
+func (t *Table) unsavedIn(cols ...int) error {
+	if cols == nil {
+		return nil
+	}
+	return unsavedError(t.File, t.Sheet, t.Header, t.unsaved, int64(t.HeaderRow)+1, MaxSheetRows, cols, "in the columns read")
 }
 
 // ErrDuplicateColumn is the cause of a header naming a column twice.
@@ -544,10 +617,10 @@ func hiddenSheetWarning(path, sheet string) string {
 // warning), or else the first visible sheet, a hidden sheet before it
 // being passed over (it may hold an old survey). Every reader of a
 // workbook sheet chooses it here. Errors: no such sheet, no sheets,
-// ErrNoVisibleSheet, or ErrFormulaNoValue at the first cell of the sheet
-// chosen that holds a formula with no saved value, and the errors of the
-// sheet's scan (ErrRowOrder at the row that does not rise,
-// ErrWorkbookZip).
+// ErrNoVisibleSheet, and the errors of the sheet's scan (ErrRowOrder at
+// the row that does not rise, ErrWorkbookZip). Its formulas with no saved
+// value (the scan's unsaved cells) are the reader's to refuse, in the
+// rows and columns it reads (see Table.unsavedIn).
 func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	sheet, warnings, err := pickSheet(f.File, path, sheet)
 	if err != nil {
@@ -563,7 +636,7 @@ func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 		}
 		return sheet, warnings, pe
 	}
-	return sheet, warnings, f.unsavedError(path, sheet)
+	return sheet, warnings, nil
 }
 
 // linksWarning is the warning of a workbook that links to other
@@ -575,7 +648,7 @@ func linksWarning(path string, links []string) string {
 	return fmt.Sprintf("%s: the workbook takes values from other workbooks (%s): they are read as last saved in it, not from those files, which are never opened", path, strings.Join(links, ", "))
 }
 
-// pickSheet is chooseSheet without the check of formulas.
+// pickSheet is chooseSheet without the scan of the sheet.
 func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 	sheets := f.GetSheetList()
 	if sheet != "" {
@@ -612,7 +685,10 @@ func pickSheet(f *excelize.File, path, sheet string) (string, []string, error) {
 // boolean, a percent, a date: see inputBook.shown). A value after the
 // header's last named column is an error at its cell (ErrBeyondHeader), as
 // in ParseCSV. Two-cell rows above the header whose first cell is one of
-// MetaKeys are kept in Meta.
+// MetaKeys are kept in Meta. A formula with no saved value in the
+// header or above it (the site block) is an error at its cell
+// (ErrFormulaNoValue); below the header it is kept for the reader, which
+// refuses those of the columns it reads (see Table.unsavedIn).
 func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	sheets := f.GetSheetList()
 	sheet, warnings, err := chooseSheet(f, path, sheet)
@@ -625,6 +701,7 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	}
 	b.t.Sheets = sheets
 	b.t.Warnings = warnings
+	unsaved := f.scans.done[sheet].unsaved
 	b.t.Date1904 = f.date1904
 	rows, err := f.Rows(sheet)
 	if err != nil {
@@ -650,6 +727,9 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 			if err := b.header(rec, n); err != nil {
 				return nil, err
 			}
+			if err := unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it"); err != nil {
+				return nil, err
+			}
 			continue
 		}
 		if err := b.row(rec, n); err != nil {
@@ -660,8 +740,12 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
 	}
 	if b.t.Header == nil {
+		if err := unsavedError(path, sheet, nil, unsaved, 1, MaxSheetRows, nil, "in the sheet"); err != nil {
+			return nil, err
+		}
 		return nil, &ParseError{File: path, Sheet: sheet, Err: errors.New("empty sheet: no header row")}
 	}
+	b.t.unsaved = unsaved
 	return b.t, nil
 }
 

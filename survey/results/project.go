@@ -28,24 +28,17 @@ type projectedPoint struct {
 
 // projectedPoints lays out the points of a projected survey: n is that
 // of the ground from the point to the next (none on the last point, none
-// at all without an n column), and the mark is "bank" at the bank
-// stations, else the point's label.
+// at all without an n column), and the mark is the point's as written, a
+// bank mark's word too (RB keeps its side).
 func projectedPoints(sv survey.Survey) []projectedPoint {
 	sec, pr := sv.Section, sv.Projection
 	out := make([]projectedPoint, len(sec.Points))
-	left, right := false, false
 	for i, p := range sec.Points {
 		pt := projectedPoint{Row: sv.Rows[i], Station: Float(p.Station), Elevation: Float(p.Elevation), N: Float(math.NaN()),
-			Mark: sv.Labels[i], Note: sv.Notes[i],
+			Mark: sv.Mark(i), Note: sv.Notes[i],
 			Easting: Float(pr.Easting[i]), Northing: Float(pr.Northing[i]), Offset: Float(pr.Offsets[i])}
 		if i < len(sec.N) {
 			pt.N = Float(sec.N[i])
-		}
-		switch {
-		case sec.HasBanks && !left && p.Station == sec.LeftBank:
-			pt.Mark, left = survey.MarkBank, true
-		case sec.HasBanks && !right && p.Station == sec.RightBank:
-			pt.Mark, right = survey.MarkBank, true
 		}
 		out[i] = pt
 	}
