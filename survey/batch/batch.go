@@ -24,7 +24,6 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
-	"slices"
 	"strings"
 	"sync"
 
@@ -32,6 +31,7 @@ import (
 	"wetline/subdivide"
 	"wetline/survey"
 	"wetline/survey/output"
+	"wetline/survey/rate"
 	"wetline/survey/results"
 )
 
@@ -377,66 +377,62 @@ var ErrMixedSystems = errors.New("the sections of one batch must be in one unit 
 // no rows, as the blank cross-section sheets of a field workbook have.
 const SkippedNote = "a header and no survey rows"
 
-// Rate reads and rates one job. A survey with a header and no rows is
-// skipped (Entry.Skipped), not failed: a field workbook holds blank
-// cross-section sheets until the crew fills them. A section whose stages
-// its table would write alike (results.ErrStagesAlike: a range shorter
-// than results.LengthResolution, or a given step or list that fine)
-// fails; with default stages it fails as one with no depth to rate
-// (results.ErrNoDepth), as one holding no water below its ends does.
+// Rate reads and rates one job (rate.Section). A survey with a header
+// and no rows is skipped (Entry.Skipped), not failed: a field workbook
+// holds blank cross-section sheets until the crew fills them. A section
+// whose stages its table would write alike (results.ErrStagesAlike: a
+// range shorter than results.LengthResolution, or a given step or list
+// that fine) fails; with default stages it fails as one with no depth to
+// rate (results.ErrNoDepth), as one holding no water below its ends does.
 func Rate(j Job, opt Options) Result {
-	return rate(j, opt, nil)
+	return rateJob(j, opt, nil)
 }
 
-// rate is Rate, reading a workbook's sheet from book when it is not nil
-// (the workbook j.Path names, already open).
-func rate(j Job, opt Options, book *survey.OpenBook) Result {
+// rateJob is Rate, reading a workbook's sheet from book when it is not
+// nil (the workbook j.Path names, already open).
+func rateJob(j Job, opt Options, book *survey.OpenBook) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
 		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
 	fail := func(err error) Result {
+		var ce *rate.ComputeError
+		if errors.As(err, &ce) {
+			err = ce.Err // the index names the source beside it
+		}
 		en.Err = strings.ReplaceAll(strings.TrimSpace(err.Error()), "\n", "; ")
 		return Result{Entry: en}
 	}
 	if j.Err != nil {
 		return fail(j.Err)
 	}
-	req := opt.Request
-	req.Path, req.Sheet, req.Book = j.Path, j.Sheet, book
-	p, err := survey.Prepare(req)
-	if err != nil {
+	// A survey with a header and no rows fails to be prepared: it is
+	// skipped.
+	failRead := func(err error) Result {
 		if headerOnly(j, book, err) {
 			en.Skipped = SkippedNote
 			return Result{Entry: en}
 		}
 		return fail(err)
 	}
-	units := &sectionUnits{Units: p.Units, Note: p.Survey.Units}
+	req := opt.Request
+	req.Path, req.Sheet, req.Book = j.Path, j.Sheet, book
 	if opt.ReadOnly {
-		return Result{Entry: en, units: units}
-	}
-	// A default step is never finer than the tables write their stages;
-	// a range shorter than that is refused, as a table of repeated stages.
-	stages, stageWarnings, err := results.TableStages(opt.Stages, p.Geometry, p.Source())
-	if err != nil {
-		return fail(err)
-	}
-	ro := opt.Rating
-	ro.Units = p.Units // as a single run: --units, which the headers must match, else the headers
-	t, err := rating.Compute(p.Geometry, stages, ro)
-	if err != nil {
-		return fail(err)
-	}
-	t.Name = j.Name
-	en.Rows, en.Warnings = len(t.Rows), slices.Concat(p.Warnings, stageWarnings, t.Warnings)
-	en.StageMin, en.StageMax, _ = t.StageRange()
-	if hb, ok := p.Ground.Section.Bankfull(); ok {
-		en.BankfullStage = hb
-		if bt, err := rating.Compute(p.Geometry, []float64{hb}, ro); err == nil && len(bt.Rows) == 1 {
-			en.BankfullDischarge = bt.Rows[0].Discharge
+		p, err := survey.Prepare(req)
+		if err != nil {
+			return failRead(err)
 		}
+		return Result{Entry: en, units: &sectionUnits{Units: p.Units, Note: p.Survey.Units}}
 	}
-	return Result{Entry: en, Table: t, units: units}
+	res, err := rate.Section(rate.Options{Request: req, Stages: opt.Stages, Rating: rating.RateOptions{Options: opt.Rating}})
+	if err != nil {
+		return failRead(err)
+	}
+	p, t := res.Prepared, res.Report.Table
+	t.Name = j.Name
+	en.Rows, en.Warnings = len(t.Rows), res.Report.Warnings
+	en.StageMin, en.StageMax, _ = t.StageRange()
+	en.BankfullStage, en.BankfullDischarge = res.BankfullStage, res.BankfullDischarge
+	return Result{Entry: en, Table: t, units: &sectionUnits{Units: p.Units, Note: p.Survey.Units}}
 }
 
 // unitGuard holds a batch to the unit system of its first section rated
@@ -507,7 +503,7 @@ func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result
 			return Rate(j, opt)
 		}
 		defer books.done(jobs[i])
-		return rate(jobs[i], opt, book)
+		return rateJob(jobs[i], opt, book)
 	},
 		func(i int, r Result) error {
 			if err := emit(i, units.check(r)); err != nil {
