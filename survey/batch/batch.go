@@ -106,7 +106,9 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 
 // ListWarn is List, and also returns warnings: hidden sheets of a
 // workbook are passed over, each named in a warning, and a named sheet
-// that is hidden is read with a warning.
+// that is hidden is read with a warning. A workbook taking values from
+// other workbooks is warned of here, once, and not with each of its
+// sheets rated.
 //
 // A CSV file of a folder whose header plainly makes it another kind of
 // table (a reach table, gaugings, a rating table: see survey.SniffCSV) is
@@ -242,21 +244,23 @@ func surveyFiles(dir string) ([]string, error) {
 
 // fileJobs returns the jobs of one input file: a CSV file, the named
 // sheet, or every visible survey sheet of a workbook, each sheet that
-// cannot be read being a failing job of its own; and warnings naming
-// hidden survey sheets passed over (a named sheet that is hidden is read,
-// and the section's own warnings say so).
+// cannot be read being a failing job of its own; and the warnings of a
+// workbook as a whole (its links to other workbooks, given here once and
+// not with each sheet rated: see survey.OpenBook) and those naming hidden
+// survey sheets passed over (a named sheet that is hidden is read, and
+// the section's own warnings say so).
 func fileJobs(path, sheet string) ([]Job, []string) {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	if !survey.IsWorkbook(path) {
 		return []Job{{Path: path, Name: base}}, nil
 	}
-	sheets, err := survey.SurveySheets(path)
+	sheets, warnings, err := survey.SurveySheetsWarn(path)
 	if err != nil {
 		return []Job{{Path: path, Name: base, Err: err}}, nil
 	}
 	if sheet != "" {
 		// A named hidden sheet is read, and its reader warns of it.
-		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, nil
+		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, warnings
 	}
 	var jobs []Job
 	var hidden []string
@@ -268,7 +272,6 @@ func fileJobs(path, sheet string) ([]Job, []string) {
 			jobs = append(jobs, Job{Path: path, Sheet: s.Sheet, Name: s.Sheet, Err: s.Err})
 		}
 	}
-	var warnings []string
 	if len(hidden) > 0 {
 		warnings = append(warnings, fmt.Sprintf("%s: hidden sheet(s) %s not read: name one with --sheet to read it", path, strings.Join(hidden, ", ")))
 	}
