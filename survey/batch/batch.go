@@ -111,7 +111,8 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 // sheets rated.
 //
 // A CSV file of a folder whose header plainly makes it another kind of
-// table (a reach table, gaugings, a rating table: see survey.SniffCSV) is
+// table (a reach table, gaugings, a rating table, shift diagrams, a stage
+// record: see survey.SniffCSV) is
 // skipped, and one warning lists them; a file named on its own is rated
 // whatever it holds. A coordinate survey and a survey by station
 // projected from it (its eastings and northings the same) are both rated,

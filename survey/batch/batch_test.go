@@ -912,3 +912,42 @@ func TestLinkedWorkbookWarnedOnce(t *testing.T) {
 		})
 	}
 }
+
+// A folder holding a stage record or a table of shift diagrams (inputs of
+// record and shifts) beside a survey rates the survey and skips the other
+// with the one warning naming it (before, each was read as a survey and
+// failed the batch: "station: missing column").
+func TestListSkipsStageRecordsAndShiftTables(t *testing.T) {
+	for _, tc := range []struct {
+		name, file, text, kind string
+	}{
+		{"stage record", "stage-2025.csv",
+			"# 15-minute gauge heights (invented)\ntime,stage (m)\n2024-10-01T00:00,0.655\n2024-10-01T00:15,0.654\n", "a stage record"},
+		{"stage record by gauge height", "logger.csv", "time,gauge_height,quality\n2024-10-01T00:00,0.655,good\n", "a stage record"},
+		{"shift diagrams", "shifts-2025.csv",
+			"time,stage,shift,taper,abrupt,note\n2024-10-09T10:30,0.65,0.000,1.3,,visit 1\n2024-10-09T10:30,0.9,0.02,,,\n", "a table of shift diagrams"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			writeFile(t, filepath.Join(dir, "xs.csv"), trapezoid)
+			writeFile(t, filepath.Join(dir, tc.file), tc.text)
+			jobs, _, warnings, err := batch.ListWarn([]string{dir}, "", "csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(jobs) != 1 || jobs[0].Name != "xs" {
+				t.Errorf("jobs %q, want xs alone", jobWords(jobs))
+			}
+			want := fmt.Sprintf("skipped 1 file(s) that are not surveys: %s (%s)", tc.file, tc.kind)
+			if !slices.Contains(warnings, want) {
+				t.Errorf("warnings %q, want %q", warnings, want)
+			}
+			// Alone in a folder, it leaves no survey to rate.
+			only := t.TempDir()
+			writeFile(t, filepath.Join(only, tc.file), tc.text)
+			if _, _, _, err := batch.ListWarn([]string{only}, "", "csv"); !errors.Is(err, batch.ErrNoSurveys) {
+				t.Errorf("a folder of %s alone: %v, want ErrNoSurveys", tc.kind, err)
+			}
+		})
+	}
+}
