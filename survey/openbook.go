@@ -10,6 +10,11 @@ import (
 // directory and parses its workbook part once, not once a sheet (which
 // made the time of a batch grow with the square of its sheets). It is
 // safe for use by several goroutines; sheets are read one at a time.
+//
+// The warnings of the workbook as a whole (that it takes values from
+// other workbooks) are not repeated with each sheet read from it: the
+// caller gives them once, as SurveySheetsWarn returns them when it lists
+// the sheets.
 type OpenBook struct {
 	path string
 	mu   sync.Mutex
@@ -24,6 +29,7 @@ func OpenWorkbookFile(path string) (*OpenBook, error) {
 	if err != nil {
 		return nil, err
 	}
+	f.bookWarningsOnce = true
 	return &OpenBook{path: path, book: f}, nil
 }
 

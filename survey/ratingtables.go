@@ -33,6 +33,13 @@ type RatingTableOptions struct {
 	// (length unit) of every rating read.
 	HasZeroFlow bool
 	ZeroFlow    float64
+	// ZeroFlowAtDryFoot takes the gauge height of zero flow of a rating
+	// whose first row has no flow from the table itself, as a hydraulic
+	// rating written from a section begins with its dry foot: the stage
+	// of the last of its leading rows without flow (see DryFoot). No
+	// warning of the first row's lack of flow is then given. HasZeroFlow,
+	// when set, is used instead.
+	ZeroFlowAtDryFoot bool
 	// HasHighGauging and HighGauging give the gauge height of the highest
 	// gauging (length unit); without them it is taken from an
 	// extrapolated column when there is one.
@@ -250,11 +257,35 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 		}
 		return gauged.Period{}, t.At(rec, col, re.Err)
 	}
-	if len(g.points) > 0 && g.points[0].Discharge == 0 && !opt.HasZeroFlow {
+	if e, ok := DryFoot(g.points); ok && opt.ZeroFlowAtDryFoot && !rt.HasZeroFlow {
+		rt.HasZeroFlow, rt.ZeroFlow = true, e
+	}
+	if len(g.points) > 0 && g.points[0].Discharge == 0 && !rt.HasZeroFlow {
 		*warn = append(*warn, fmt.Sprintf("%s: the first row has no flow at stage %g: give the gauge height of zero flow to interpolate log-linearly in (h − e)",
 			where(t, g.recs[0].Row), g.points[0].Stage))
 	}
 	return gauged.Period{From: g.from, Rating: rt}, nil
+}
+
+// DryFoot returns the gauge height of zero flow a rating table gives
+// itself when its first row has no flow: the stage of the last of its
+// leading rows without flow, below the first row with flow (length unit).
+// A hydraulic rating written from a section begins so, at the section's
+// lowest point (and, below it, at stages where it holds no water). ok is
+// false when the first row has flow, or the table has fewer than two
+// rows (no interval to read).
+func DryFoot(points []gauged.RatingPoint) (e float64, ok bool) {
+	if len(points) < 2 || points[0].Discharge != 0 {
+		return 0, false
+	}
+	e = points[0].Stage
+	for _, p := range points {
+		if p.Discharge > 0 {
+			break
+		}
+		e = p.Stage
+	}
+	return e, true
 }
 
 // yesWord reads a yes/true cell.

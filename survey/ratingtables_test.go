@@ -233,3 +233,68 @@ func TestRatingTableAllExtrapolated(t *testing.T) {
 		})
 	}
 }
+
+// DryFoot gives a table's own gauge height of zero flow: the last of its
+// leading rows without flow.
+func TestDryFoot(t *testing.T) {
+	pts := func(pairs ...float64) []gauged.RatingPoint {
+		var out []gauged.RatingPoint
+		for i := 0; i+1 < len(pairs); i += 2 {
+			out = append(out, gauged.RatingPoint{Stage: pairs[i], Discharge: pairs[i+1]})
+		}
+		return out
+	}
+	for _, tc := range []struct {
+		name   string
+		points []gauged.RatingPoint
+		e      float64
+		ok     bool
+	}{
+		{"one dry row", pts(0.2, 0, 0.4, 1.5, 0.6, 4), 0.2, true},
+		{"dry rows below the foot", pts(-0.5, 0, 0, 0, 0.2, 0, 0.4, 1.5), 0.2, true},
+		{"flow from the first row", pts(0.2, 0.3, 0.4, 1.5), 0, false},
+		{"one row", pts(0.2, 0), 0, false},
+		{"no rows", nil, 0, false},
+		{"every row dry", pts(0.2, 0, 0.4, 0), 0.4, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			e, ok := DryFoot(tc.points)
+			if ok != tc.ok || (ok && e != tc.e) {
+				t.Errorf("DryFoot = %g, %v; want %g, %v", e, ok, tc.e, tc.ok)
+			}
+		})
+	}
+}
+
+// With ZeroFlowAtDryFoot a hydraulic rating written from a section (dry
+// rows at its foot) is read with its own gauge height of zero flow, and
+// no warning asks for one; without it the warning is given and no zero
+// flow is set. A zero flow given (HasZeroFlow) is kept.
+func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
+	const table = "stage,discharge\n99.5,0\n100.0,0\n100.5,1.2\n101.0,4.8\n"
+	for _, tc := range []struct {
+		name  string
+		opt   RatingTableOptions
+		has   bool
+		e     float64
+		warns int
+	}{
+		{"at the dry foot", RatingTableOptions{Datum: 100, ZeroFlowAtDryFoot: true}, true, 0, 0},
+		{"not asked", RatingTableOptions{Datum: 100}, false, 0, 1},
+		{"given", RatingTableOptions{Datum: 100, ZeroFlowAtDryFoot: true, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rs, err := ParseRatingTables(strings.NewReader(table), "hydraulic.csv", tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			rt := rs.Periods[0].Rating
+			if rt.HasZeroFlow != tc.has || (tc.has && rt.ZeroFlow != tc.e) || len(rs.Warnings) != tc.warns {
+				t.Errorf("zero flow %v at %g, warnings %q; want %v at %g and %d warning(s)", rt.HasZeroFlow, rt.ZeroFlow, rs.Warnings, tc.has, tc.e, tc.warns)
+			}
+			if _, err := rt.Compile(); err != nil {
+				t.Errorf("the rating read does not compile: %v", err)
+			}
+		})
+	}
+}

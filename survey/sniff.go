@@ -13,8 +13,9 @@ const sniffCSVBytes = 16 << 10
 type Sniff struct {
 	// Other names the kind of table its header plainly makes it when
 	// that is not a survey ("a reach table", "a table of gaugings", "a
-	// rating table"); "" for a survey, or a table of no kind known (read
-	// as a survey, its reader says what is wrong).
+	// rating table", "a table of shift diagrams", "a stage record"); ""
+	// for a survey, or a table of no kind known (read as a survey, its
+	// reader says what is wrong).
 	Other string
 	// Projected reports a survey by station that also gives eastings and
 	// northings: a coordinate survey projected onto its line and written
@@ -64,6 +65,10 @@ func sniffTable(t *Table) Sniff {
 		s.Other = "a table of gaugings"
 	case kind == KindRating:
 		s.Other = "a rating table"
+	case t.Column(ColShiftTime) >= 0 && t.Column(ColShiftStage, ColGaugeHeight) >= 0 && t.Column(ColShift) >= 0:
+		s.Other = "a table of shift diagrams"
+	case t.Column(ColRecordTime) >= 0 && t.Column(ColRecordStage, ColGaugeHeight) >= 0:
+		s.Other = "a stage record"
 	}
 	if kind == KindSection && coords {
 		ce, cn := t.Column(ColEasting, "x"), t.Column(ColNorthing, "y")

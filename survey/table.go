@@ -146,6 +146,18 @@ type inputBook struct {
 	// links names the other workbooks this one links to (see
 	// externalLinks), nil when it links to none.
 	links []string
+	// bookWarningsOnce leaves the workbook's own warnings (its links)
+	// out of each sheet's: the caller gives them once (see OpenBook).
+	bookWarningsOnce bool
+}
+
+// bookWarnings are the warnings of the workbook as a whole, which file
+// names: that it links to other workbooks. Nil when there are none.
+func (f *inputBook) bookWarnings(file string) []string {
+	if w := linksWarning(file, f.links); w != "" {
+		return []string{w}
+	}
+	return nil
 }
 
 // shown rewrites the raw values of a row of a sheet (row is 1-based) as
@@ -626,8 +638,8 @@ func chooseSheet(f *inputBook, path, sheet string) (string, []string, error) {
 	if err != nil {
 		return sheet, warnings, err
 	}
-	if w := linksWarning(path, f.links); w != "" {
-		warnings = append(warnings, w)
+	if !f.bookWarningsOnce {
+		warnings = append(warnings, f.bookWarnings(path)...)
 	}
 	if _, err := f.scans.scan(sheet); err != nil {
 		pe := &ParseError{File: path, Sheet: sheet, Err: err}
@@ -1058,9 +1070,17 @@ type SheetSurvey struct {
 // be read: a sheet that cannot be read does not keep the others from
 // being told. The error is the workbook's, when it cannot be opened.
 func SurveySheets(path string) ([]SheetSurvey, error) {
+	sheets, _, err := SurveySheetsWarn(path)
+	return sheets, err
+}
+
+// SurveySheetsWarn is SurveySheets, and also returns the warnings of the
+// workbook as a whole (that it takes values from other workbooks), which
+// the sheets read from an OpenBook of it do not repeat.
+func SurveySheetsWarn(path string) ([]SheetSurvey, []string, error) {
 	f, err := openWorkbook(path)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	defer f.Close()
 	var out []SheetSurvey
@@ -1072,7 +1092,7 @@ func SurveySheets(path string) ([]SheetSurvey, error) {
 		}
 		out = append(out, s)
 	}
-	return out, nil
+	return out, f.bookWarnings(path), nil
 }
 
 // hasSurveyHeader reports whether the header of a sheet, its first

@@ -243,10 +243,10 @@ func (in *fitInputs) addSection(p *survey.Prepared) {
 
 // readHydraulicTable reads a hydraulic rating table at gauge heights
 // (stage − datum): one rating, interpolated log-linearly in the stage
-// above its dry foot when it has one. The units of its headers must be
-// those decided, or decide them (see unitsDecided.take).
+// above its dry foot when it has one (survey.DryFoot). The units of its
+// headers must be those decided, or decide them (see unitsDecided.take).
 func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) (*gauged.TableRating, []string, error) {
-	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum})
+	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true})
 	if err != nil {
 		return nil, nil, err
 	}
@@ -258,27 +258,11 @@ func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) 
 	}
 	tab := *rt.Periods[0].Rating
 	tab.HasHighGauging = false
-	if ps := tab.Points; len(ps) > 1 && ps[0].Discharge == 0 {
-		e := ps[0].Stage
-		for _, p := range ps {
-			if p.Discharge > 0 {
-				break
-			}
-			e = p.Stage
-		}
-		tab.HasZeroFlow, tab.ZeroFlow = true, e
-	}
 	c, err := tab.Compile()
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", path, err)
 	}
-	var warn []string
-	for _, w := range rt.Warnings {
-		if !strings.Contains(w, "gauge height of zero flow") {
-			warn = append(warn, w)
-		}
-	}
-	return c, warn, nil
+	return c, rt.Warnings, nil
 }
 
 // options checks the flags against each other and turns them into report

@@ -30,8 +30,9 @@ var layers = map[string]int{
 	"survey":          4,
 	"plotting":        4,
 	"survey/results":  5,
-	"survey/batch":    6,
-	"cmd/wetline":     7,
+	"survey/rate":     6,
+	"survey/batch":    7,
+	"cmd/wetline":     8,
 }
 
 // TestImportDirection reads the imports of every Go file of the module

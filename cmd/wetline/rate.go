@@ -12,7 +12,9 @@ import (
 
 	"wetline/plotting"
 	"wetline/rating"
+	"wetline/subdivide"
 	"wetline/survey"
+	"wetline/survey/rate"
 	"wetline/survey/results"
 )
 
@@ -158,48 +160,61 @@ func runRate(ctx context.Context, e *env, args []string) error {
 		summary: func(w io.Writer) error { return results.WriteRatingSummary(w, rep, f.output) }})
 }
 
-// rate reads the section at path and computes its rating report.
+// rate reads the section at path and computes its rating report
+// (rate.Section), the flags turned into its options.
 func (f *rateFlags) rate(fs *flagSet, path string, lookup bool) (rating.RatingReport, error) {
-	p, err := f.prepare(path)
+	req, err := f.request(path)
 	if err != nil {
 		return rating.RatingReport{}, err
 	}
-	opt := rating.Options{Slope: f.slope, Units: p.Units, Geometry: f.geometry()}
-	cal, err := f.calib.apply(fs, p, opt)
+	res, err := rate.Section(rate.Options{Request: req, Stages: f.stageSpec(fs),
+		Rating: rating.RateOptions{Options: rating.Options{Slope: f.slope, Geometry: f.geometry()},
+			Lookup: lookup, GaugeHeights: fs.Changed("datum"), Datum: f.calib.datum},
+		Calibrate: func(p *survey.Prepared, opt rating.Options) (*rating.NCalibration, error) {
+			return f.calib.apply(fs, p, opt)
+		}})
 	if err != nil {
-		return rating.RatingReport{}, err
+		return rating.RatingReport{}, f.rateError(fs, err)
 	}
-	stages, stageWarnings, err := results.TableStages(f.stageSpec(fs), p.Geometry, p.Source())
+	rep := res.Report
+	rep.Provenance.Program = program()
+	rep.Provenance.Site = siteWith(rep.Provenance.Site, f.site)
+	return rep, nil
+}
+
+// rateError maps an error of rate.Section to the run's: stages the
+// flags asked for that cannot be laid out, a table too long for a
+// workbook, a stage above a conduit's crown and a request the flags got
+// wrong are usage errors; a section with no depth to rate, and the
+// data's other faults, are not.
+func (f *rateFlags) rateError(fs *flagSet, err error) error {
+	var se *rate.StagesError
+	var ce *rate.ComputeError
 	switch {
-	case err == nil:
-	case errors.Is(err, results.ErrNoDepth):
-		return rating.RatingReport{}, err // the survey's fault: exit 1
-	case errors.Is(err, results.ErrStagesAlike):
-		return rating.RatingReport{}, stagesApart(fs, err)
-	default:
+	case errors.As(err, &se):
+		err = se.Err
+		switch {
+		case errors.Is(err, results.ErrNoDepth):
+			return err // the survey's fault: exit 1
+		case errors.Is(err, results.ErrStagesAlike):
+			return stagesApart(fs, err)
+		}
 		if fs.Changed("step") {
-			err = tooFineStep("rate", f.step, p.Units, err)
+			err = tooFineStep("rate", f.step, se.Units, err)
 		}
 		if ue := (usageError{}); errors.As(err, &ue) {
-			return rating.RatingReport{}, err
+			return err
 		}
-		return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
-	}
-	if lookup { // the workbook: check its sheets hold the table before computing
-		if err := results.CheckRatingWorkbook(len(stages), len(p.Geometry.Subsections())); err != nil {
-			return rating.RatingReport{}, usageError{err: fmt.Errorf("rate: %w", err)}
+		return usageError{err: fmt.Errorf("rate: %w", err)}
+	case errors.As(err, &ce):
+		if errors.Is(err, subdivide.ErrAboveCrown) {
+			return usageError{err: err}
 		}
+		return err
+	case errors.Is(err, results.ErrWorkbookRows):
+		return usageError{err: fmt.Errorf("rate: %w", err)}
 	}
-	gauge := fs.Changed("datum")
-	rep, err := rating.Rate(p.Geometry, stages, rating.RateOptions{Options: opt, Lookup: lookup, GaugeHeights: gauge, Datum: f.calib.datum})
-	if err != nil {
-		return rep, failed(p, err)
-	}
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site), Notes: p.Notes}
-	rep.Ground = p.Ground
-	rep.Calibration = cal
-	rep.Warnings = slices.Concat(p.Warnings, stageWarnings, rep.Warnings)
-	return rep, nil
+	return f.requestError(err)
 }
 
 // drawRating draws a rating report's figures into it, named after the

@@ -24,7 +24,6 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
-	"slices"
 	"strings"
 	"sync"
 
@@ -32,6 +31,7 @@ import (
 	"wetline/subdivide"
 	"wetline/survey"
 	"wetline/survey/output"
+	"wetline/survey/rate"
 	"wetline/survey/results"
 )
 
@@ -106,10 +106,13 @@ func List(args []string, sheet, ext string) ([]Job, []string, error) {
 
 // ListWarn is List, and also returns warnings: hidden sheets of a
 // workbook are passed over, each named in a warning, and a named sheet
-// that is hidden is read with a warning.
+// that is hidden is read with a warning. A workbook taking values from
+// other workbooks is warned of here, once, and not with each of its
+// sheets rated.
 //
 // A CSV file of a folder whose header plainly makes it another kind of
-// table (a reach table, gaugings, a rating table: see survey.SniffCSV) is
+// table (a reach table, gaugings, a rating table, shift diagrams, a stage
+// record: see survey.SniffCSV) is
 // skipped, and one warning lists them; a file named on its own is rated
 // whatever it holds. A coordinate survey and a survey by station
 // projected from it (its eastings and northings the same) are both rated,
@@ -242,21 +245,23 @@ func surveyFiles(dir string) ([]string, error) {
 
 // fileJobs returns the jobs of one input file: a CSV file, the named
 // sheet, or every visible survey sheet of a workbook, each sheet that
-// cannot be read being a failing job of its own; and warnings naming
-// hidden survey sheets passed over (a named sheet that is hidden is read,
-// and the section's own warnings say so).
+// cannot be read being a failing job of its own; and the warnings of a
+// workbook as a whole (its links to other workbooks, given here once and
+// not with each sheet rated: see survey.OpenBook) and those naming hidden
+// survey sheets passed over (a named sheet that is hidden is read, and
+// the section's own warnings say so).
 func fileJobs(path, sheet string) ([]Job, []string) {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	if !survey.IsWorkbook(path) {
 		return []Job{{Path: path, Name: base}}, nil
 	}
-	sheets, err := survey.SurveySheets(path)
+	sheets, warnings, err := survey.SurveySheetsWarn(path)
 	if err != nil {
 		return []Job{{Path: path, Name: base, Err: err}}, nil
 	}
 	if sheet != "" {
 		// A named hidden sheet is read, and its reader warns of it.
-		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, nil
+		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, warnings
 	}
 	var jobs []Job
 	var hidden []string
@@ -268,7 +273,6 @@ func fileJobs(path, sheet string) ([]Job, []string) {
 			jobs = append(jobs, Job{Path: path, Sheet: s.Sheet, Name: s.Sheet, Err: s.Err})
 		}
 	}
-	var warnings []string
 	if len(hidden) > 0 {
 		warnings = append(warnings, fmt.Sprintf("%s: hidden sheet(s) %s not read: name one with --sheet to read it", path, strings.Join(hidden, ", ")))
 	}
@@ -377,66 +381,62 @@ var ErrMixedSystems = errors.New("the sections of one batch must be in one unit 
 // no rows, as the blank cross-section sheets of a field workbook have.
 const SkippedNote = "a header and no survey rows"
 
-// Rate reads and rates one job. A survey with a header and no rows is
-// skipped (Entry.Skipped), not failed: a field workbook holds blank
-// cross-section sheets until the crew fills them. A section whose stages
-// its table would write alike (results.ErrStagesAlike: a range shorter
-// than results.LengthResolution, or a given step or list that fine)
-// fails; with default stages it fails as one with no depth to rate
-// (results.ErrNoDepth), as one holding no water below its ends does.
+// Rate reads and rates one job (rate.Section). A survey with a header
+// and no rows is skipped (Entry.Skipped), not failed: a field workbook
+// holds blank cross-section sheets until the crew fills them. A section
+// whose stages its table would write alike (results.ErrStagesAlike: a
+// range shorter than results.LengthResolution, or a given step or list
+// that fine) fails; with default stages it fails as one with no depth to
+// rate (results.ErrNoDepth), as one holding no water below its ends does.
 func Rate(j Job, opt Options) Result {
-	return rate(j, opt, nil)
+	return rateJob(j, opt, nil)
 }
 
-// rate is Rate, reading a workbook's sheet from book when it is not nil
-// (the workbook j.Path names, already open).
-func rate(j Job, opt Options, book *survey.OpenBook) Result {
+// rateJob is Rate, reading a workbook's sheet from book when it is not
+// nil (the workbook j.Path names, already open).
+func rateJob(j Job, opt Options, book *survey.OpenBook) Result {
 	nan := math.NaN()
 	en := results.IndexEntry{Section: j.Name, Source: j.Source(),
 		StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}
 	fail := func(err error) Result {
+		var ce *rate.ComputeError
+		if errors.As(err, &ce) {
+			err = ce.Err // the index names the source beside it
+		}
 		en.Err = strings.ReplaceAll(strings.TrimSpace(err.Error()), "\n", "; ")
 		return Result{Entry: en}
 	}
 	if j.Err != nil {
 		return fail(j.Err)
 	}
-	req := opt.Request
-	req.Path, req.Sheet, req.Book = j.Path, j.Sheet, book
-	p, err := survey.Prepare(req)
-	if err != nil {
+	// A survey with a header and no rows fails to be prepared: it is
+	// skipped.
+	failRead := func(err error) Result {
 		if headerOnly(j, book, err) {
 			en.Skipped = SkippedNote
 			return Result{Entry: en}
 		}
 		return fail(err)
 	}
-	units := &sectionUnits{Units: p.Units, Note: p.Survey.Units}
+	req := opt.Request
+	req.Path, req.Sheet, req.Book = j.Path, j.Sheet, book
 	if opt.ReadOnly {
-		return Result{Entry: en, units: units}
-	}
-	// A default step is never finer than the tables write their stages;
-	// a range shorter than that is refused, as a table of repeated stages.
-	stages, stageWarnings, err := results.TableStages(opt.Stages, p.Geometry, p.Source())
-	if err != nil {
-		return fail(err)
-	}
-	ro := opt.Rating
-	ro.Units = p.Units // as a single run: --units, which the headers must match, else the headers
-	t, err := rating.Compute(p.Geometry, stages, ro)
-	if err != nil {
-		return fail(err)
-	}
-	t.Name = j.Name
-	en.Rows, en.Warnings = len(t.Rows), slices.Concat(p.Warnings, stageWarnings, t.Warnings)
-	en.StageMin, en.StageMax, _ = t.StageRange()
-	if hb, ok := p.Ground.Section.Bankfull(); ok {
-		en.BankfullStage = hb
-		if bt, err := rating.Compute(p.Geometry, []float64{hb}, ro); err == nil && len(bt.Rows) == 1 {
-			en.BankfullDischarge = bt.Rows[0].Discharge
+		p, err := survey.Prepare(req)
+		if err != nil {
+			return failRead(err)
 		}
+		return Result{Entry: en, units: &sectionUnits{Units: p.Units, Note: p.Survey.Units}}
 	}
-	return Result{Entry: en, Table: t, units: units}
+	res, err := rate.Section(rate.Options{Request: req, Stages: opt.Stages, Rating: rating.RateOptions{Options: opt.Rating}})
+	if err != nil {
+		return failRead(err)
+	}
+	p, t := res.Prepared, res.Report.Table
+	t.Name = j.Name
+	en.Rows, en.Warnings = len(t.Rows), res.Report.Warnings
+	en.StageMin, en.StageMax, _ = t.StageRange()
+	en.BankfullStage, en.BankfullDischarge = res.BankfullStage, res.BankfullDischarge
+	return Result{Entry: en, Table: t, units: &sectionUnits{Units: p.Units, Note: p.Survey.Units}}
 }
 
 // unitGuard holds a batch to the unit system of its first section rated
@@ -507,7 +507,7 @@ func Run(ctx context.Context, jobs []Job, opt Options, emit func(i int, r Result
 			return Rate(j, opt)
 		}
 		defer books.done(jobs[i])
-		return rate(jobs[i], opt, book)
+		return rateJob(jobs[i], opt, book)
 	},
 		func(i int, r Result) error {
 			if err := emit(i, units.check(r)); err != nil {

@@ -8,6 +8,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
@@ -91,6 +92,31 @@ func writeBook(t *testing.T, path string, sheets ...[2]string) {
 // the others still read.
 func spoilSheet(t *testing.T, path string, n int) {
 	t.Helper()
+	spoiled := fmt.Sprintf("xl/worksheets/sheet%d.xml", n)
+	rewriteBook(t, path, nil, func(name string, b []byte) []byte {
+		if name == spoiled {
+			return []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
+		}
+		return b
+	})
+}
+
+// linkBook adds to a workbook the parts of a link to another workbook
+// (an external link and its relationship naming the file), as a
+// spreadsheet program saves a formula reading a cell of another file.
+func linkBook(t *testing.T, path, other string) {
+	t.Helper()
+	rewriteBook(t, path, map[string]string{
+		"xl/externalLinks/externalLink1.xml": `<?xml version="1.0"?><externalLink xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><externalBook/></externalLink>`,
+		"xl/externalLinks/_rels/externalLink1.xml.rels": `<?xml version="1.0"?><Relationships xmlns="http://schemas.openxmlformats.org/package/2006/relationships">` +
+			`<Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/externalLinkPath" Target="` + other + `" TargetMode="External"/></Relationships>`,
+	}, nil)
+}
+
+// rewriteBook rewrites the zip of a workbook, each part through edit (when
+// not nil), and adds the parts of extra.
+func rewriteBook(t *testing.T, path string, extra map[string]string, edit func(name string, b []byte) []byte) {
+	t.Helper()
 	data, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
@@ -101,11 +127,16 @@ func spoilSheet(t *testing.T, path string, n int) {
 	}
 	var out bytes.Buffer
 	zw := zip.NewWriter(&out)
-	for _, zf := range zr.File {
-		w, err := zw.Create(zf.Name)
+	put := func(name string, b []byte) {
+		w, err := zw.Create(name)
 		if err != nil {
 			t.Fatal(err)
 		}
+		if _, err := w.Write(b); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, zf := range zr.File {
 		rc, err := zf.Open()
 		if err != nil {
 			t.Fatal(err)
@@ -115,12 +146,13 @@ func spoilSheet(t *testing.T, path string, n int) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if zf.Name == fmt.Sprintf("xl/worksheets/sheet%d.xml", n) {
-			b = []byte(`<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"><sheetData><row r="x"><c r="A1"><v>1</v></c></row></sheetData></worksheet>`)
+		if edit != nil {
+			b = edit(zf.Name, b)
 		}
-		if _, err := w.Write(b); err != nil {
-			t.Fatal(err)
-		}
+		put(zf.Name, b)
+	}
+	for _, name := range slices.Sorted(maps.Keys(extra)) {
+		put(name, []byte(extra[name]))
 	}
 	if err := zw.Close(); err != nil {
 		t.Fatal(err)
@@ -842,5 +874,80 @@ func TestListSkipsTablesThatAreNotSurveys(t *testing.T) {
 	}
 	if _, _, _, err := batch.ListWarn([]string{only}, "", "csv"); !errors.Is(err, batch.ErrNoSurveys) {
 		t.Errorf("a folder of a reach table alone: %v, want ErrNoSurveys", err)
+	}
+}
+
+// A workbook that takes values from other workbooks is warned of once
+// when its sheets are listed, not again with each sheet rated (before,
+// every sheet's index line and warnings repeated it); a sheet named with
+// --sheet is warned of the same way.
+func TestLinkedWorkbookWarnedOnce(t *testing.T) {
+	dir := t.TempDir()
+	book := filepath.Join(dir, "field.xlsx")
+	writeBook(t, book, [2]string{"XS-1", trapezoid}, [2]string{"XS-2", trapezoid}, [2]string{"XS-3", trapezoid})
+	linkBook(t, book, "file:///D:/crew/levels.xlsx")
+	const linked = "takes values from other workbooks (file:///D:/crew/levels.xlsx)"
+	for _, sheet := range []string{"", "XS-2"} {
+		t.Run("sheet "+sheet, func(t *testing.T) {
+			jobs, _, warnings, err := batch.ListWarn([]string{book}, sheet, "csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if n := strings.Count(strings.Join(warnings, "\n"), linked); n != 1 {
+				t.Errorf("the listing warns of the links %d times, want once: %q", n, warnings)
+			}
+			var buf bytes.Buffer
+			sum, err := batch.Long(context.Background(), &buf, jobs, rateOptions())
+			if err != nil {
+				t.Fatal(err)
+			}
+			if sum.Failed > 0 || len(sum.Entries) != len(jobs) {
+				t.Fatalf("%d of %d failed: %+v", sum.Failed, len(sum.Entries), sum.Entries)
+			}
+			for _, en := range sum.Entries {
+				if w := strings.Join(en.Warnings, "\n"); strings.Contains(w, linked) {
+					t.Errorf("%s repeats the links: %q", en.Section, en.Warnings)
+				}
+			}
+		})
+	}
+}
+
+// A folder holding a stage record or a table of shift diagrams (inputs of
+// record and shifts) beside a survey rates the survey and skips the other
+// with the one warning naming it (before, each was read as a survey and
+// failed the batch: "station: missing column").
+func TestListSkipsStageRecordsAndShiftTables(t *testing.T) {
+	for _, tc := range []struct {
+		name, file, text, kind string
+	}{
+		{"stage record", "stage-2025.csv",
+			"# 15-minute gauge heights (invented)\ntime,stage (m)\n2024-10-01T00:00,0.655\n2024-10-01T00:15,0.654\n", "a stage record"},
+		{"stage record by gauge height", "logger.csv", "time,gauge_height,quality\n2024-10-01T00:00,0.655,good\n", "a stage record"},
+		{"shift diagrams", "shifts-2025.csv",
+			"time,stage,shift,taper,abrupt,note\n2024-10-09T10:30,0.65,0.000,1.3,,visit 1\n2024-10-09T10:30,0.9,0.02,,,\n", "a table of shift diagrams"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := t.TempDir()
+			writeFile(t, filepath.Join(dir, "xs.csv"), trapezoid)
+			writeFile(t, filepath.Join(dir, tc.file), tc.text)
+			jobs, _, warnings, err := batch.ListWarn([]string{dir}, "", "csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(jobs) != 1 || jobs[0].Name != "xs" {
+				t.Errorf("jobs %q, want xs alone", jobWords(jobs))
+			}
+			want := fmt.Sprintf("skipped 1 file(s) that are not surveys: %s (%s)", tc.file, tc.kind)
+			if !slices.Contains(warnings, want) {
+				t.Errorf("warnings %q, want %q", warnings, want)
+			}
+			// Alone in a folder, it leaves no survey to rate.
+			only := t.TempDir()
+			writeFile(t, filepath.Join(only, tc.file), tc.text)
+			if _, _, _, err := batch.ListWarn([]string{only}, "", "csv"); !errors.Is(err, batch.ErrNoSurveys) {
+				t.Errorf("a folder of %s alone: %v, want ErrNoSurveys", tc.kind, err)
+			}
+		})
 	}
 }
