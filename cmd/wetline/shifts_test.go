@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -247,5 +248,52 @@ func TestShiftsWarningsInOffset(t *testing.T) {
 	}
 	if !strings.Contains(out, "2024-05-02T11:00:00+10:00") {
 		t.Errorf("the report does not write the gauging's time at +10:00: %s", out)
+	}
+}
+
+// TestShiftsAppliedFromDiagramTime: a diagram is never applied before its
+// own time. One constant diagram of −0.05 m at 2024-05-01T10:00, between
+// the test gaugings of 09:00 and 12:00 that day (and one the next day). By
+// hand (Kennedy, 1983, USGS TWRI 3-A13, from memory: shifts prorated in
+// time from the start of the rating period, applied from the diagram's
+// time):
+//
+//	abrupt, rating from the start of the record: 0, −0.05, −0.05;
+//	not abrupt, rating from 2024-05-01T00:00: at 09:00, 9 of 10 hours from
+//	  the period's start, 0.9·(−0.05) = −0.045; then −0.05, −0.05;
+//	not abrupt, rating without a time: 0, −0.05, −0.05, and a warning that
+//	  the diagram has no start to be prorated from.
+func TestShiftsAppliedFromDiagramTime(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		name, rating, abrupt string
+		applied              []string
+		warning              string
+	}{
+		{"abrupt", recRatingA, "yes", []string{"0", "-0.05", "-0.05"}, ""},
+		{"prorated from the period's start", recRatingA + "@2024-05-01T00:00", "", []string{"-0.045", "-0.05", "-0.05"}, ""},
+		{"no start to prorate from", recRatingA, "", []string{"0", "-0.05", "-0.05"}, "is not abrupt, but it is the first of a rating period with no start time"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			shifts := filepath.Join(dir, strings.ReplaceAll(tc.name, " ", "-")+".csv")
+			if err := os.WriteFile(shifts, []byte("time,stage,shift,taper,abrupt\n2024-05-01T10:00,,-0.05,,"+tc.abrupt+"\n"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			out, errs, code := runCLI(t, "shifts", recGaugings, "--rating", tc.rating, "--zero-flow", "0.2", "--shifts", shifts, "--format", "csv")
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			rows := strings.Split(strings.TrimSpace(out), "\n")
+			col := slices.Index(results.ShiftGaugingColumns(), "applied_shift")
+			for i, want := range tc.applied {
+				if got := strings.Split(rows[i+1], ",")[col]; got != want {
+					t.Errorf("gauging %d: applied_shift %q, want %q", i+1, got, want)
+				}
+			}
+			if has := strings.Contains(errs, "no start time"); has != (tc.warning != "") || tc.warning != "" && !strings.Contains(errs, tc.warning) {
+				t.Errorf("stderr %q, want warning %q", errs, tc.warning)
+			}
+		})
 	}
 }
