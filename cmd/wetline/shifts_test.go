@@ -196,8 +196,9 @@ func TestShiftsVisitGap(t *testing.T) {
 // 0.6 m3/s; last 1.60 m, 17.5 m3/s) with e = 0.2 until a period without a
 // rating from 1 June: zero discharge at 0.84 m, where the rating has flow,
 // has no shift; zero at 0.15 m (below e) agrees with the rating; 2.0 m is
-// above the last row and 30 m3/s beyond it; a gauging in June has no
-// rating.
+// above the last row and 30 m3/s beyond it, and above the rating's highest
+// gauging (1.2 m), flagged above_gaugings as the record flags it; a
+// gauging in June has no rating.
 func TestShiftsFlagsEveryProblem(t *testing.T) {
 	t.Parallel()
 	gaugings := filepath.Join(t.TempDir(), "g.csv")
@@ -215,16 +216,19 @@ func TestShiftsFlagsEveryProblem(t *testing.T) {
 	}{
 		{"no_shift", "g.csv:2: zero discharge measured at gauge height 0.84, where the rating \"rating-a.csv\" gives"},
 		{"below_zero_flow", "g.csv:3: gauge height 0.15 is at or below the zero-flow stage 0.2"},
-		{"outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
+		{"above_gaugings outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
 		{"no_rating", "g.csv:5: no rating is in force"},
 	} {
 		f := strings.Split(rows[i+1], ",")
-		if got := f[len(f)-1]; got != tc.flags {
+		if got := f[slices.Index(results.ShiftGaugingColumns(), "flags")]; got != tc.flags {
 			t.Errorf("row %q: flags %q, want %q", rows[i+1], got, tc.flags)
 		}
 		if !strings.Contains(errs, tc.warning) {
 			t.Errorf("no warning %q in %s", tc.warning, errs)
 		}
+	}
+	if w := "g.csv:4: gauge height 2 is above the highest gauging 1.2 of the rating \"rating-a.csv\"\n"; !strings.Contains(errs, w) {
+		t.Errorf("no warning %q in %s", w, errs)
 	}
 }
 

@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -516,5 +517,47 @@ func TestCheckGaugingsMarksLookups(t *testing.T) {
 	}
 	if len(c.Warnings) != 2 {
 		t.Errorf("warnings %q", c.Warnings)
+	}
+}
+
+// TestCheckGaugingsAboveAndExcluded: a gauging above the rating's highest
+// gauging is marked and warned of, at its gauge height or at its effective
+// one; an excluded gauging keeps its numbers but counts against nothing.
+//
+// Q = 10·h, highest gauging 1.5 m; a diagram of +0.2 m from the period's
+// start at 1 March (abrupt). By hand:
+//
+//	1.6 m: above at the gauge height (and at 1.8 effective);
+//	1.4 m: 1.6 effective, above only there;
+//	1.0 m measuring 20 (shift +1.0, departure +100 % from 10), excluded
+//	  "spin test": Outside false, no diagram from it.
+func TestCheckGaugingsAboveAndExcluded(t *testing.T) {
+	rt := linearRating("q=10h", 10)
+	rt.HasHighGauging, rt.HighGauging = true, 1.5
+	h := History{Periods: []Period{{From: march(1), Rating: rt}}, Shifts: []ShiftDiagram{{Time: march(1), Points: []ShiftPoint{{Stage: math.NaN(), Shift: 0.2}}, Abrupt: true}}}
+	gs := []Gauging{
+		{Time: march(2), Stage: 1.6, Discharge: 18, Quality: rating.Good, Source: "g:2"},
+		{Time: march(4), Stage: 1.4, Discharge: 16, Quality: rating.Good, Source: "g:3"},
+		{Time: march(6), Stage: 1.0, Discharge: 20, Quality: rating.Good, Source: "g:4", Exclude: "spin test"},
+	}
+	c, err := compileHistory(t, h).CheckGaugings(gs, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, w := range []struct{ above, shifted, excluded bool }{{true, true, false}, {false, true, false}, {false, false, true}} {
+		if g := c.Gaugings[i]; g.AboveGaugings != w.above || g.ShiftedAboveGaugings != w.shifted || g.Excluded != w.excluded {
+			t.Errorf("gauging %d: above %v, shifted above %v, excluded %v; want %+v", i+1, g.AboveGaugings, g.ShiftedAboveGaugings, g.Excluded, w)
+		}
+	}
+	want := []string{
+		`g:2: gauge height 1.6 is above the highest gauging 1.5 of the rating "q=10h": rated on its extension above the gaugings`,
+		`g:3: effective gauge height 1.6 (shift 0.2 applied) is above the highest gauging 1.5 of the rating "q=10h": rated on its extension above the gaugings`,
+	}
+	if !slices.Equal(c.Warnings, want) {
+		t.Errorf("warnings %q, want %q", c.Warnings, want)
+	}
+	g := c.Gaugings[2]
+	if g.Outside || g.OutsideShifted || math.Abs(g.Departure-100) > percentTol || math.Abs(g.Shift-1) > ratingTol || len(c.Visits[2].Proposal.Points) != 0 {
+		t.Errorf("excluded gauging %+v, visit %+v", g, c.Visits[2])
 	}
 }
