@@ -215,7 +215,7 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 		if out.Lookup == l {
 			return fmt.Sprintf("gauge height %g", g.Stage)
 		}
-		return fmt.Sprintf("effective gauge height %g (shift %g applied)", base.Effective, base.Shift)
+		return effectiveWords(base)
 	}
 	if out.Lookup == Extrapolated || out.ShiftedLookup == Extrapolated {
 		*warn = append(*warn, fmt.Sprintf("%s: %s is beyond the rows of the rating %q: rated by extrapolation", g.label(), where(Extrapolated), rt.Name()))
@@ -223,7 +223,7 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 	if out.AboveGaugings || out.ShiftedAboveGaugings {
 		h, q := fmt.Sprintf("gauge height %g", g.Stage), out.Rated
 		if !out.AboveGaugings {
-			h, q = fmt.Sprintf("effective gauge height %.6g (shift %.6g applied)", base.Effective, base.Shift), out.Shifted
+			h, q = effectiveWords(base), out.Shifted
 		}
 		rated := ": rated on its extension above the gaugings"
 		if math.IsNaN(q) {
@@ -235,6 +235,13 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 		*warn = append(*warn, fmt.Sprintf("%s: %s is at or below the zero-flow stage %g of the rating %q: rated 0", g.label(), where(ZeroFlow), rt.table.ZeroFlow, rt.Name()))
 	}
 	return out
+}
+
+// effectiveWords names a rated effective gauge height and its shift in a
+// message, to six significant digits so that the round-off of h + s
+// (9.95 + 0.2 = 10.149999999999999) is not written.
+func effectiveWords(v Rated) string {
+	return fmt.Sprintf("effective gauge height %.6g (shift %.6g applied)", v.Effective, v.Shift)
 }
 
 // departure returns 100·(Q − rated)/rated and whether it lies outside the

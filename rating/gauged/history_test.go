@@ -556,6 +556,18 @@ func TestCheckGaugingsAboveAndExcluded(t *testing.T) {
 	if !slices.Equal(c.Warnings, want) {
 		t.Errorf("warnings %q, want %q", c.Warnings, want)
 	}
+	// The extrapolation warning at an effective gauge height writes it
+	// without round-off: 9.95 + 0.2 is 10.149999999999999 in binary.
+	ext := linearRating("q=10h", 10)
+	ext.Extrapolate = true
+	h.Periods[0].Rating = ext
+	ce, err := compileHistory(t, h).CheckGaugings([]Gauging{{Time: march(2), Stage: 9.95, Discharge: 102, Source: "g:5"}}, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := `g:5: effective gauge height 10.15 (shift 0.2 applied) is beyond the rows of the rating "q=10h": rated by extrapolation`; !slices.Contains(ce.Warnings, w) {
+		t.Errorf("warnings %q, want %q", ce.Warnings, w)
+	}
 	g := c.Gaugings[2]
 	if g.Outside || g.OutsideShifted || math.Abs(g.Departure-100) > percentTol || math.Abs(g.Shift-1) > ratingTol || len(c.Visits[2].Proposal.Points) != 0 {
 		t.Errorf("excluded gauging %+v, visit %+v", g, c.Visits[2])
