@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -195,8 +196,9 @@ func TestShiftsVisitGap(t *testing.T) {
 // 0.6 m3/s; last 1.60 m, 17.5 m3/s) with e = 0.2 until a period without a
 // rating from 1 June: zero discharge at 0.84 m, where the rating has flow,
 // has no shift; zero at 0.15 m (below e) agrees with the rating; 2.0 m is
-// above the last row and 30 m3/s beyond it; a gauging in June has no
-// rating.
+// above the last row and 30 m3/s beyond it, and above the rating's highest
+// gauging (1.2 m), flagged above_gaugings as the record flags it; a
+// gauging in June has no rating.
 func TestShiftsFlagsEveryProblem(t *testing.T) {
 	t.Parallel()
 	gaugings := filepath.Join(t.TempDir(), "g.csv")
@@ -214,16 +216,19 @@ func TestShiftsFlagsEveryProblem(t *testing.T) {
 	}{
 		{"no_shift", "g.csv:2: zero discharge measured at gauge height 0.84, where the rating \"rating-a.csv\" gives"},
 		{"below_zero_flow", "g.csv:3: gauge height 0.15 is at or below the zero-flow stage 0.2"},
-		{"outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
+		{"above_gaugings outside_rating no_shift", "g.csv:4: gauge height 2 is outside the rating"},
 		{"no_rating", "g.csv:5: no rating is in force"},
 	} {
 		f := strings.Split(rows[i+1], ",")
-		if got := f[len(f)-1]; got != tc.flags {
+		if got := f[slices.Index(results.ShiftGaugingColumns(), "flags")]; got != tc.flags {
 			t.Errorf("row %q: flags %q, want %q", rows[i+1], got, tc.flags)
 		}
 		if !strings.Contains(errs, tc.warning) {
 			t.Errorf("no warning %q in %s", tc.warning, errs)
 		}
+	}
+	if w := "g.csv:4: gauge height 2 is above the highest gauging 1.2 of the rating \"rating-a.csv\"\n"; !strings.Contains(errs, w) {
+		t.Errorf("no warning %q in %s", w, errs)
 	}
 }
 
@@ -247,5 +252,52 @@ func TestShiftsWarningsInOffset(t *testing.T) {
 	}
 	if !strings.Contains(out, "2024-05-02T11:00:00+10:00") {
 		t.Errorf("the report does not write the gauging's time at +10:00: %s", out)
+	}
+}
+
+// TestShiftsAppliedFromDiagramTime: a diagram is never applied before its
+// own time. One constant diagram of −0.05 m at 2024-05-01T10:00, between
+// the test gaugings of 09:00 and 12:00 that day (and one the next day). By
+// hand (Kennedy, 1983, USGS TWRI 3-A13, from memory: shifts prorated in
+// time from the start of the rating period, applied from the diagram's
+// time):
+//
+//	abrupt, rating from the start of the record: 0, −0.05, −0.05;
+//	not abrupt, rating from 2024-05-01T00:00: at 09:00, 9 of 10 hours from
+//	  the period's start, 0.9·(−0.05) = −0.045; then −0.05, −0.05;
+//	not abrupt, rating without a time: 0, −0.05, −0.05, and a warning that
+//	  the diagram has no start to be prorated from.
+func TestShiftsAppliedFromDiagramTime(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		name, rating, abrupt string
+		applied              []string
+		warning              string
+	}{
+		{"abrupt", recRatingA, "yes", []string{"0", "-0.05", "-0.05"}, ""},
+		{"prorated from the period's start", recRatingA + "@2024-05-01T00:00", "", []string{"-0.045", "-0.05", "-0.05"}, ""},
+		{"no start to prorate from", recRatingA, "", []string{"0", "-0.05", "-0.05"}, "is not abrupt, but it is the first of a rating period with no start time"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			shifts := filepath.Join(dir, strings.ReplaceAll(tc.name, " ", "-")+".csv")
+			if err := os.WriteFile(shifts, []byte("time,stage,shift,taper,abrupt\n2024-05-01T10:00,,-0.05,,"+tc.abrupt+"\n"), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			out, errs, code := runCLI(t, "shifts", recGaugings, "--rating", tc.rating, "--zero-flow", "0.2", "--shifts", shifts, "--format", "csv")
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			rows := strings.Split(strings.TrimSpace(out), "\n")
+			col := slices.Index(results.ShiftGaugingColumns(), "applied_shift")
+			for i, want := range tc.applied {
+				if got := strings.Split(rows[i+1], ",")[col]; got != want {
+					t.Errorf("gauging %d: applied_shift %q, want %q", i+1, got, want)
+				}
+			}
+			if has := strings.Contains(errs, "no start time"); has != (tc.warning != "") || tc.warning != "" && !strings.Contains(errs, tc.warning) {
+				t.Errorf("stderr %q, want warning %q", errs, tc.warning)
+			}
+		})
 	}
 }

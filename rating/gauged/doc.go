@@ -29,8 +29,9 @@
 // gauge height of zero flow), compiled into a TableRating that reads it
 // log-linearly in (h − e) between rows. ShiftDiagram is a shift as a
 // function of stage; History puts ratings in periods and diagrams in time,
-// and compiles into a Rater that prorates shifts between visits and
-// refuses a diagram falling faster than the stage rises. Rater.CheckGaugings
+// and compiles into a Rater that prorates shifts between visits, from no
+// shift at a rating period's start and never before a diagram's own time,
+// and refuses a diagram falling faster than the stage rises. Rater.CheckGaugings
 // sets gaugings against the rating in force, proposes a diagram per field
 // visit and returns the ShiftCheck report; CompareRatings sets two ratings
 // side by side (a revision). Package record turns a stage record into the

@@ -30,8 +30,9 @@ type Gauging struct {
 	// quality's band stands in for it (see Gauging.LogSigma).
 	Uncertainty float64
 	// Exclude, when not blank, leaves the gauging out of the rating fits of
-	// the controls engine (FitControls, FitBayes) and is shown as the
-	// reason; the gauging still gets its departure from the fitted rating.
+	// the controls engine (FitControls, FitBayes) and out of the shift
+	// diagrams Rater.CheckGaugings proposes, and is shown as the reason;
+	// the gauging still gets its departure from the rating.
 	Exclude string
 }
 

@@ -24,7 +24,8 @@ type GaugingShift struct {
 	// above zero).
 	Departure float64
 	// Outside reports a Departure outside the gauging's band
-	// (Gauging.Outside).
+	// (Gauging.Outside); never for an Excluded gauging, which counts
+	// against no rating.
 	Outside bool
 	// Shift is the measured shift: the rating's gauge height for the
 	// measured discharge minus the gauge height read (length unit; NaN when
@@ -36,7 +37,8 @@ type GaugingShift struct {
 	Applied float64
 	// Shifted is the discharge of the rating with the applied shift
 	// (discharge unit), ShiftedDeparture the percent departure from it and
-	// OutsideShifted whether that lies outside the quality band.
+	// OutsideShifted whether that lies outside the quality band (never for
+	// an Excluded gauging).
 	Shifted          float64
 	ShiftedDeparture float64
 	OutsideShifted   bool
@@ -54,6 +56,15 @@ type GaugingShift struct {
 	// discharge at a gauge height the rating also rates 0 needs no shift
 	// and is not marked.
 	NoShift bool
+	// AboveGaugings reports a gauge height above the highest gauging of
+	// the rating in force, ShiftedAboveGaugings an effective gauge height
+	// above it (both false when that gauging is not known): the discharge
+	// is read on the rating's extension above its gaugings.
+	AboveGaugings, ShiftedAboveGaugings bool
+	// Excluded reports a gauging whose Exclude is not blank: it keeps its
+	// departures and shifts, but no visit proposes a diagram from it and
+	// it is never Outside or OutsideShifted.
+	Excluded bool
 }
 
 // Visit is a field visit: gaugings close together in time under one rating
@@ -67,10 +78,11 @@ type Visit struct {
 	// Period is the 0-based index of the rating period in force at the
 	// visit's gaugings, -1 when none is.
 	Period int
-	// Proposal is a shift diagram through the visit's measured shifts (one
-	// point per gauge height, shifts measured at one gauge height averaged),
-	// dated at Time, for the user to edit; no points when the visit gives
-	// no usable shift or its shifts make a refused diagram.
+	// Proposal is a shift diagram through the measured shifts of the
+	// visit's gaugings not excluded (one point per gauge height, shifts
+	// measured at one gauge height averaged), dated at Time, for the user
+	// to edit; no points when the visit gives no usable shift (every
+	// gauging excluded, say) or its shifts make a refused diagram.
 	Proposal ShiftDiagram
 }
 
@@ -126,9 +138,13 @@ var ErrVisitGap = errors.New("the visit gap must not be negative")
 // gauging's quality band, the measured shift s with Q_rating(h + s) = Q
 // (what must be added to the gauge height for the rating to pass through
 // the gauging), the shift the history's diagrams already apply there and
-// the departure that remains. A gauging rated by extrapolation beyond the
-// table's rows, or at or below its zero-flow stage (rated 0), is marked
-// (Lookup, ShiftedLookup) and warned of. Gaugings are then grouped into
+// the departure that remains. A gauging with a non-blank Exclude (a failed
+// meter, weed on the section) is measured too but marked Excluded: it is
+// never counted outside its band and proposes no diagram. A gauging rated
+// by extrapolation beyond the table's rows, or at or below its zero-flow
+// stage (rated 0), is marked (Lookup, ShiftedLookup) and warned of, and so
+// is one above the rating's highest gauging (AboveGaugings,
+// ShiftedAboveGaugings). Gaugings are then grouped into
 // visits, and each visit proposes a shift diagram through its measured
 // shifts.
 //
@@ -159,7 +175,7 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShift {
 	nan := math.NaN()
 	out := GaugingShift{Gauging: g, Rated: nan, Departure: nan, Shift: nan, Applied: nan, Shifted: nan, ShiftedDeparture: nan, Residual: nan,
-		Lookup: NoRating, ShiftedLookup: NoRating}
+		Lookup: NoRating, ShiftedLookup: NoRating, Excluded: hasText(g.Exclude)}
 	base := r.At(g.Time, g.Stage)
 	out.Period, out.ShiftedLookup = base.Period, base.Lookup
 	if base.Lookup == NoRating {
@@ -168,10 +184,14 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 	}
 	rt := r.periods[base.Period].rating
 	out.Rated, out.Lookup = rt.Discharge(g.Stage)
+	out.AboveGaugings, out.ShiftedAboveGaugings = rt.AboveGaugings(g.Stage), base.AboveGaugings
 	out.Departure, out.Outside = departure(g, out.Rated)
 	out.Applied = base.Shift
 	out.Shifted = base.Discharge
 	out.ShiftedDeparture, out.OutsideShifted = departure(g, out.Shifted)
+	if out.Excluded {
+		out.Outside, out.OutsideShifted = false, false
+	}
 	if g.Discharge > 0 {
 		h, err := rt.Stage(g.Discharge)
 		if err != nil {
@@ -195,15 +215,33 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 		if out.Lookup == l {
 			return fmt.Sprintf("gauge height %g", g.Stage)
 		}
-		return fmt.Sprintf("effective gauge height %g (shift %g applied)", base.Effective, base.Shift)
+		return effectiveWords(base)
 	}
 	if out.Lookup == Extrapolated || out.ShiftedLookup == Extrapolated {
 		*warn = append(*warn, fmt.Sprintf("%s: %s is beyond the rows of the rating %q: rated by extrapolation", g.label(), where(Extrapolated), rt.Name()))
+	}
+	if out.AboveGaugings || out.ShiftedAboveGaugings {
+		h, q := fmt.Sprintf("gauge height %g", g.Stage), out.Rated
+		if !out.AboveGaugings {
+			h, q = effectiveWords(base), out.Shifted
+		}
+		rated := ": rated on its extension above the gaugings"
+		if math.IsNaN(q) {
+			rated = "" // outside the rating, warned of below
+		}
+		*warn = append(*warn, fmt.Sprintf("%s: %s is above the highest gauging %g of the rating %q%s", g.label(), h, rt.table.HighGauging, rt.Name(), rated))
 	}
 	if out.Lookup == ZeroFlow || out.ShiftedLookup == ZeroFlow {
 		*warn = append(*warn, fmt.Sprintf("%s: %s is at or below the zero-flow stage %g of the rating %q: rated 0", g.label(), where(ZeroFlow), rt.table.ZeroFlow, rt.Name()))
 	}
 	return out
+}
+
+// effectiveWords names a rated effective gauge height and its shift in a
+// message, to six significant digits so that the round-off of h + s
+// (9.95 + 0.2 = 10.149999999999999) is not written.
+func effectiveWords(v Rated) string {
+	return fmt.Sprintf("effective gauge height %.6g (shift %.6g applied)", v.Effective, v.Shift)
 }
 
 // departure returns 100·(Q − rated)/rated and whether it lies outside the
@@ -240,17 +278,22 @@ func (c *ShiftCheck) visits(gap time.Duration, z *time.Location) {
 	}
 }
 
-// propose lays a shift diagram through a visit's measured shifts.
+// propose lays a shift diagram through the measured shifts of a visit's
+// gaugings not excluded; its source is the first of them.
 func (c *ShiftCheck) propose(v *Visit, z *time.Location) {
 	type sum struct {
 		stage, shift float64
 		n            int
 	}
 	var pts []sum
+	first := -1 // the first gauging drawn through
 	for _, i := range v.Gaugings {
 		g := c.Gaugings[i]
-		if math.IsNaN(g.Shift) {
+		if math.IsNaN(g.Shift) || g.Excluded {
 			continue
+		}
+		if first < 0 {
+			first = i
 		}
 		j := sort.Search(len(pts), func(j int) bool { return pts[j].stage >= g.Stage })
 		if j < len(pts) && pts[j].stage == g.Stage {
@@ -265,7 +308,7 @@ func (c *ShiftCheck) propose(v *Visit, z *time.Location) {
 	if len(pts) == 0 {
 		return
 	}
-	d := ShiftDiagram{Time: v.Time, Source: c.Gaugings[v.Gaugings[0]].Source}
+	d := ShiftDiagram{Time: v.Time, Source: c.Gaugings[first].Source}
 	for _, p := range pts {
 		d.Points = append(d.Points, ShiftPoint{Stage: p.stage, Shift: p.shift / float64(p.n)})
 	}

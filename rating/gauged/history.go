@@ -23,11 +23,31 @@ type Period struct {
 // rating periods and the shift diagrams, both in time order. It is a plain
 // value; Compile checks it and prepares it for lookups.
 //
-// A shift diagram is relative to the rating in force at its time. Shifts
-// are prorated between the diagrams of one rating period only: before the
-// first diagram of a period and after its last, the nearest holds; a period
-// without diagrams has no shift. Diagrams dated before every period or in
-// a period without a rating are not used (the compiled Rater says so).
+// A shift diagram is relative to the rating in force at its time, and
+// shifts are prorated between the diagrams of one rating period only:
+//
+//   - a rating period starts with no shift: its rating as published;
+//   - an abrupt diagram takes effect at its own time, the shift before it
+//     holding until then;
+//   - a diagram not abrupt is prorated in time from the previous diagram of
+//     its period, and the first diagram of a period from zero shift at the
+//     period's start;
+//   - the first period of a history that begins at the zero time has no
+//     start to prorate from: before its first diagram there is no shift,
+//     and that diagram takes effect at its time as if abrupt (the compiled
+//     Rater warns of it, unless the diagram is zero at every stage);
+//   - after a period's last diagram that diagram holds to the period's end;
+//     a period without diagrams has no shift.
+//
+// Diagrams dated before every period or in a period without a rating are
+// not used (the compiled Rater says so).
+//
+// References:
+//
+//	Kennedy, E.J., 1983, Computation of continuous records of streamflow:
+//	USGS Techniques of Water-Resources Investigations, book 3, chap. A13
+//	(shifts prorated in time between discharge measurements, and applied
+//	from the time of the measurement that defines them; from memory).
 type History struct {
 	// Periods ascend strictly in From.
 	Periods []Period
@@ -90,7 +110,7 @@ type Rated struct {
 
 // periodRater is one compiled rating period.
 type periodRater struct {
-	from   int64 // Unix seconds; math.MinInt64 for the zero time
+	from   int64 // Unix seconds; math.MinInt64 for the zero time (no start)
 	rating *TableRating
 	times  []int64 // diagram times, Unix seconds
 	curves []curve
@@ -171,7 +191,34 @@ func (h History) Compile() (*Rater, error) {
 		pr.abrupt = append(pr.abrupt, d.Abrupt)
 		pr.shifts = append(pr.shifts, i)
 	}
+	for i := range r.periods {
+		if p := &r.periods[i]; p.jumpsAtFirst() && !p.abrupt[0] && !p.hasStart() {
+			d := h.Shifts[p.shifts[0]]
+			r.Warnings = append(r.Warnings, fmt.Sprintf("the shift diagram of %s%s is not abrupt, but it is the first of a rating period with no start time to prorate it from: "+
+				"no shift is applied before it, and it takes effect at its time as if abrupt; give the rating a start time to prorate the shift from zero there, "+
+				"or mark the diagram abrupt", at(d.Time), sourceNote(d.Source)))
+		}
+	}
 	return r, nil
+}
+
+// hasStart reports a period with a start time, from which its first
+// diagram is prorated.
+func (p *periodRater) hasStart() bool { return p.from != math.MinInt64 }
+
+// jumpsAtFirst reports a period whose shift jumps at its first diagram:
+// one not zero at every stage that is abrupt or cannot be prorated (the
+// period has no start), dated after the period's start.
+func (p *periodRater) jumpsAtFirst() bool {
+	if len(p.times) == 0 || p.times[0] <= p.from || !(p.abrupt[0] || !p.hasStart()) {
+		return false
+	}
+	for _, s := range p.curves[0].s {
+		if s != 0 {
+			return true
+		}
+	}
+	return false
 }
 
 func sourceNote(s string) string {
@@ -211,13 +258,20 @@ func (r *Rater) Rating(p int) *TableRating {
 }
 
 // Breaks returns, in time order, the times at which the rated discharge
-// may jump: the beginning of every rating period after the first, and every
-// abrupt diagram after the first of its period. The slice is new.
+// may jump: the beginning of every rating period after the first, every
+// abrupt diagram after the first of its period, and the first diagram of a
+// period when the shift jumps there from zero (it is abrupt, or its period
+// has no start to prorate it from, and it is not zero at every stage). The
+// slice is new.
 func (r *Rater) Breaks() []time.Time {
 	var out []int64
-	for i, p := range r.periods {
+	for i := range r.periods {
+		p := &r.periods[i]
 		if i > 0 {
 			out = append(out, p.from)
+		}
+		if p.jumpsAtFirst() {
+			out = append(out, p.times[0])
 		}
 		for j := 1; j < len(p.times); j++ {
 			if p.abrupt[j] {
@@ -267,7 +321,13 @@ func (r *Rater) At(t time.Time, h float64) Rated { return r.AtUnix(t.Unix(), h, 
 //
 //	s(t, h) = s_A(h) + (t − t_A)/(t_B − t_A) · (s_B(h) − s_A(h)),
 //
-// unless B is abrupt: then s_A(h) holds until t_B. The effective gauge
+// unless B is abrupt: then s_A(h) holds until t_B. Before the first diagram
+// of a period, A is zero shift at the period's start t_0 (no shift at all
+// before the first diagram when it is abrupt or the period has no start),
+//
+//	s(t, h) = (t − t_0)/(t_B − t_0) · s_B(h);
+//
+// after the last diagram it holds (see History). The effective gauge
 // height h + s is read on the period's rating (see Rating.Discharge).
 //
 // References:
@@ -297,7 +357,13 @@ func (p *periodRater) shiftAt(t int64, h float64, before bool) float64 {
 	j := lastAtOrBefore(p.times, t, before)
 	switch {
 	case j < 0:
-		return p.curves[0].at(h)
+		// Before the period's first diagram: prorated from no shift at the
+		// period's start, when it has one and the diagram is not abrupt.
+		if p.abrupt[0] || !p.hasStart() || p.times[0] <= p.from {
+			return 0
+		}
+		w := float64(t-p.from) / float64(p.times[0]-p.from)
+		return w * p.curves[0].at(h)
 	case j == n-1:
 		return p.curves[n-1].at(h)
 	case p.abrupt[j+1]:

@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -31,7 +32,8 @@ func compileHistory(t *testing.T, h History) *Rater {
 //	6 March is half-way (5 of 10 days); at h = 1.0: s_A = 0.05, s_B = 0.03,
 //	s = 0.05 + 0.5·(0.03 − 0.05) = 0.04; at h = 0.5: 0.10 + 0.5·(0.04 − 0.10) = 0.07;
 //	at 3.5 days (0.35): h = 1.0 gives 0.05 − 0.35·0.02 = 0.043.
-//	Before A, A holds; after B, B holds.
+//	After B, B holds. The period has no start, so before A there is no
+//	shift (TestShiftBeforeFirstDiagram).
 func TestProrationHalfway(t *testing.T) {
 	a := ShiftDiagram{Time: march(1), Points: []ShiftPoint{{0.5, 0.10}, {1.5, 0.00}}}
 	b := ShiftDiagram{Time: march(11), Points: []ShiftPoint{{0.5, 0.04}, {1.5, 0.02}}}
@@ -44,7 +46,7 @@ func TestProrationHalfway(t *testing.T) {
 		{march(6), 0.5, 0.07},
 		{march(4).Add(12 * time.Hour), 1.0, 0.043},
 		{march(1), 1.0, 0.05},
-		{march(1).Add(-48 * time.Hour), 1.0, 0.05},
+		{march(1).Add(-48 * time.Hour), 1.0, 0},
 		{march(11), 1.0, 0.03},
 		{march(20), 0.5, 0.04},
 	} {
@@ -67,6 +69,8 @@ func TestProrationHalfway(t *testing.T) {
 //	10 March 23:59: 0.10 (prorated it would be 0.10 − 0.15·(9.999/10) ≈ −0.05).
 //	11 March 00:00: −0.05; just before it (the left limit): 0.10.
 //	Not abrupt, on 6 March: 0.10 + 0.5·(−0.15) = 0.025.
+//	A, the first diagram of a period with no start, takes effect at once
+//	too: the breaks are 1 and 11 March.
 func TestAbruptSwitch(t *testing.T) {
 	a := ShiftDiagram{Time: march(1), Points: []ShiftPoint{{1, 0.10}}}
 	b := ShiftDiagram{Time: march(11), Points: []ShiftPoint{{1, -0.05}}, Abrupt: true}
@@ -83,11 +87,107 @@ func TestAbruptSwitch(t *testing.T) {
 	check("11 March", r.At(march(11), 1).Shift, -0.05)
 	check("left limit at the flood", r.AtUnix(march(11).Unix(), 1, true).Shift, 0.10)
 	check("after", r.At(march(25), 1).Shift, -0.05)
-	if br := r.Breaks(); len(br) != 1 || !br[0].Equal(march(11)) {
-		t.Errorf("breaks %v, want the flood", br)
+	if br := r.Breaks(); len(br) != 2 || !br[0].Equal(march(1)) || !br[1].Equal(march(11)) {
+		t.Errorf("breaks %v, want the first diagram and the flood", br)
 	}
 	h.Shifts[1].Abrupt = false
 	check("6 March, prorated", compileHistory(t, h).At(march(6), 1).Shift, 0.025)
+}
+
+// TestShiftBeforeFirstDiagram: a rating period starts with no shift (its
+// rating as published); an abrupt diagram takes effect at its own time; a
+// diagram not abrupt is prorated from zero at its period's start, and the
+// first diagram of a period without a start (the first period of an open
+// history) takes effect at its time, with a warning unless it is zero.
+// Shifts prorated between measurements and applied from the measurement
+// that defines them: Kennedy, 1983, USGS TWRI 3-A13, from memory.
+//
+// Q = 10·h, h = 1. One diagram D on 11 March, constant −0.10 (so Q = 9
+// from D on). By hand:
+//
+//	period from 1 March, D abrupt:  6 March 0 (Q 10); 10 March 23:59 0;
+//	  11 March −0.10; the left limit at 11 March 0; a break at 11 March.
+//	period from 1 March, D not abrupt: 1 March 0; 3 March (2 of 10 days)
+//	  −0.02; 6 March (5 of 10) −0.05 (Q 9.5); 11 March −0.10 and so is its
+//	  left limit; 20 March −0.10; no break.
+//	open period, D abrupt or not: 6 March 0; 11 March −0.10; left limit 0;
+//	  a break at 11 March; a warning only when D is not abrupt.
+//	open period, D not abrupt but zero: 0 throughout, no break, no warning.
+//	a second period from 20 March (Q = 20·h) with D2 on 30 March, +0.20 not
+//	  abrupt: 20 March 0 (Q 20), its left limit −0.10 (period 1, D held);
+//	  25 March (5 of 10 days) +0.10 (Q 22); before, the nearest diagram
+//	  (D2) held back to 20 March, giving +0.20 there.
+func TestShiftBeforeFirstDiagram(t *testing.T) {
+	type at struct {
+		t      time.Time
+		before bool
+		shift  float64
+	}
+	minute := time.Minute
+	for _, tc := range []struct {
+		name    string
+		from    time.Time // the first period's start; zero: none
+		abrupt  bool
+		shift   float64 // D's shift
+		second  bool    // add the second period and D2
+		want    []at
+		breaks  []time.Time
+		warning string
+	}{
+		{"period start, abrupt", march(1), true, -0.10, false,
+			[]at{{march(6), false, 0}, {march(11).Add(-minute), false, 0}, {march(11), false, -0.10}, {march(11), true, 0}},
+			[]time.Time{march(11)}, ""},
+		{"period start, prorated", march(1), false, -0.10, false,
+			[]at{{march(1), false, 0}, {march(3), false, -0.02}, {march(6), false, -0.05}, {march(11), false, -0.10}, {march(11), true, -0.10}, {march(20), false, -0.10}},
+			nil, ""},
+		{"open period, abrupt", time.Time{}, true, -0.10, false,
+			[]at{{march(6), false, 0}, {march(11), false, -0.10}, {march(11), true, 0}},
+			[]time.Time{march(11)}, ""},
+		{"open period, not abrupt", time.Time{}, false, -0.10, false,
+			[]at{{march(6), false, 0}, {march(11), false, -0.10}, {march(11), true, 0}},
+			[]time.Time{march(11)}, "the shift diagram of 2024-03-11T00:00:00Z (s:2) is not abrupt, but it is the first of a rating period with no start time"},
+		{"open period, zero diagram", time.Time{}, false, 0, false,
+			[]at{{march(6), false, 0}, {march(11), false, 0}},
+			nil, ""},
+		{"second period", march(1), true, -0.10, true,
+			[]at{{march(20), false, 0}, {march(20), true, -0.10}, {march(25), false, 0.10}, {march(30), false, 0.20}},
+			[]time.Time{march(11), march(20)}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			h := History{Periods: []Period{{From: tc.from, Rating: linearRating("ten", 10)}},
+				Shifts: []ShiftDiagram{{Time: march(11), Points: []ShiftPoint{{Stage: math.NaN(), Shift: tc.shift}}, Abrupt: tc.abrupt, Source: "s:2"}}}
+			if tc.second {
+				h.Periods = append(h.Periods, Period{From: march(20), Rating: linearRating("twenty", 20)})
+				h.Shifts = append(h.Shifts, ShiftDiagram{Time: march(30), Points: []ShiftPoint{{Stage: math.NaN(), Shift: 0.20}}})
+			}
+			r := compileHistory(t, h)
+			for _, w := range tc.want {
+				v := r.AtUnix(w.t.Unix(), 1, w.before)
+				k := 10.0
+				if v.Period == 1 {
+					k = 20
+				}
+				if math.Abs(v.Shift-w.shift) > shiftTol || math.Abs(v.Discharge-k*(1+w.shift)) > ratingTol {
+					t.Errorf("%s (before %v): shift %v, Q %v; want %v, Q %v", w.t.Format(time.DateTime), w.before, v.Shift, v.Discharge, w.shift, k*(1+w.shift))
+				}
+			}
+			br := r.Breaks()
+			if len(br) != len(tc.breaks) {
+				t.Fatalf("breaks %v, want %v", br, tc.breaks)
+			}
+			for i := range br {
+				if !br[i].Equal(tc.breaks[i]) {
+					t.Errorf("breaks %v, want %v", br, tc.breaks)
+				}
+			}
+			switch {
+			case tc.warning == "" && len(r.Warnings) > 0:
+				t.Errorf("warnings %q, want none", r.Warnings)
+			case tc.warning != "" && (len(r.Warnings) != 1 || !strings.HasPrefix(r.Warnings[0], tc.warning)):
+				t.Errorf("warnings %q, want %q", r.Warnings, tc.warning)
+			}
+		})
+	}
 }
 
 // TestPeriods: the rating in force follows the periods; shifts stay in
@@ -96,8 +196,9 @@ func TestAbruptSwitch(t *testing.T) {
 //
 //	period 0 from 10 March: Q = 10·h; period 1 from 20 March: no rating;
 //	period 2 from 25 March: Q = 20·h.
-//	A diagram of 12 March (+0.1) shifts period 0 only, from its first day
-//	(the nearest diagram holds before it): 10 and 15 March, h = 1: Q = 11.
+//	A diagram of 12 March (+0.1) shifts period 0 only, prorated from no
+//	shift at its start: h = 1 gives Q = 10 on 10 March, 10·(1 + 0.05) = 10.5
+//	on 11 March (half-way), 11 on 15 March.
 //	26 March, h = 1: Q = 20 (period 2 has no diagram: no shift).
 func TestPeriods(t *testing.T) {
 	h := History{
@@ -112,7 +213,8 @@ func TestPeriods(t *testing.T) {
 		how    Lookup
 	}{
 		{march(1), -1, math.NaN(), NoRating},
-		{march(10), 0, 11, InTable},
+		{march(10), 0, 10, InTable},
+		{march(11), 0, 10.5, InTable},
 		{march(15), 0, 11, InTable},
 		{march(21), 1, math.NaN(), NoRating},
 		{march(26), 2, 20, InTable},
@@ -415,5 +517,59 @@ func TestCheckGaugingsMarksLookups(t *testing.T) {
 	}
 	if len(c.Warnings) != 2 {
 		t.Errorf("warnings %q", c.Warnings)
+	}
+}
+
+// TestCheckGaugingsAboveAndExcluded: a gauging above the rating's highest
+// gauging is marked and warned of, at its gauge height or at its effective
+// one; an excluded gauging keeps its numbers but counts against nothing.
+//
+// Q = 10·h, highest gauging 1.5 m; a diagram of +0.2 m from the period's
+// start at 1 March (abrupt). By hand:
+//
+//	1.6 m: above at the gauge height (and at 1.8 effective);
+//	1.4 m: 1.6 effective, above only there;
+//	1.0 m measuring 20 (shift +1.0, departure +100 % from 10), excluded
+//	  "spin test": Outside false, no diagram from it.
+func TestCheckGaugingsAboveAndExcluded(t *testing.T) {
+	rt := linearRating("q=10h", 10)
+	rt.HasHighGauging, rt.HighGauging = true, 1.5
+	h := History{Periods: []Period{{From: march(1), Rating: rt}}, Shifts: []ShiftDiagram{{Time: march(1), Points: []ShiftPoint{{Stage: math.NaN(), Shift: 0.2}}, Abrupt: true}}}
+	gs := []Gauging{
+		{Time: march(2), Stage: 1.6, Discharge: 18, Quality: rating.Good, Source: "g:2"},
+		{Time: march(4), Stage: 1.4, Discharge: 16, Quality: rating.Good, Source: "g:3"},
+		{Time: march(6), Stage: 1.0, Discharge: 20, Quality: rating.Good, Source: "g:4", Exclude: "spin test"},
+	}
+	c, err := compileHistory(t, h).CheckGaugings(gs, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, w := range []struct{ above, shifted, excluded bool }{{true, true, false}, {false, true, false}, {false, false, true}} {
+		if g := c.Gaugings[i]; g.AboveGaugings != w.above || g.ShiftedAboveGaugings != w.shifted || g.Excluded != w.excluded {
+			t.Errorf("gauging %d: above %v, shifted above %v, excluded %v; want %+v", i+1, g.AboveGaugings, g.ShiftedAboveGaugings, g.Excluded, w)
+		}
+	}
+	want := []string{
+		`g:2: gauge height 1.6 is above the highest gauging 1.5 of the rating "q=10h": rated on its extension above the gaugings`,
+		`g:3: effective gauge height 1.6 (shift 0.2 applied) is above the highest gauging 1.5 of the rating "q=10h": rated on its extension above the gaugings`,
+	}
+	if !slices.Equal(c.Warnings, want) {
+		t.Errorf("warnings %q, want %q", c.Warnings, want)
+	}
+	// The extrapolation warning at an effective gauge height writes it
+	// without round-off: 9.95 + 0.2 is 10.149999999999999 in binary.
+	ext := linearRating("q=10h", 10)
+	ext.Extrapolate = true
+	h.Periods[0].Rating = ext
+	ce, err := compileHistory(t, h).CheckGaugings([]Gauging{{Time: march(2), Stage: 9.95, Discharge: 102, Source: "g:5"}}, CheckOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if w := `g:5: effective gauge height 10.15 (shift 0.2 applied) is beyond the rows of the rating "q=10h": rated by extrapolation`; !slices.Contains(ce.Warnings, w) {
+		t.Errorf("warnings %q, want %q", ce.Warnings, w)
+	}
+	g := c.Gaugings[2]
+	if g.Outside || g.OutsideShifted || math.Abs(g.Departure-100) > percentTol || math.Abs(g.Shift-1) > ratingTol || len(c.Visits[2].Proposal.Points) != 0 {
+		t.Errorf("excluded gauging %+v, visit %+v", g, c.Visits[2])
 	}
 }

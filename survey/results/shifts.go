@@ -18,25 +18,35 @@ import (
 // after them.
 func ShiftGaugingColumns() []string {
 	return []string{"time", "stage", "discharge", "quality", "rating_period", "rated", "departure_percent", "outside_band",
-		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source", "flags"}
+		"shift", "applied_shift", "residual_shift", "shifted", "shifted_departure_percent", "outside_band_shifted", "visit", "source", "flags",
+		"exclude"}
 }
 
 // noShiftFlag is the flag of a gauging whose shift could not be measured
-// on the rating in force (gauged.GaugingShift.NoShift).
-const noShiftFlag = "no_shift"
+// on the rating in force (gauged.GaugingShift.NoShift), excludedFlag of a
+// gauging left out by its exclude column (gauged.GaugingShift.Excluded).
+const (
+	noShiftFlag  = "no_shift"
+	excludedFlag = "excluded"
+)
 
 // flagList is a gauging's flags, written space-separated.
 type flagList []string
 
 func (l flagList) String() string { return strings.Join(l, " ") }
 
-// gaugingFlags marks a gauging, with the record's flags, rated by
-// extrapolation beyond its rating's rows or at or below the zero-flow
-// stage (on the base or the shifted rating), at a gauge height outside the
-// rating, or under no rating; then no_shift when its shift could not be
-// measured. Each is warned of when the gaugings are checked.
+// gaugingFlags marks a gauging, with the record's flags, above the
+// highest gauging of its rating, rated by extrapolation beyond its
+// rating's rows or at or below the zero-flow stage (each on the base or
+// the shifted rating), at a gauge height outside the rating, or under no
+// rating; then no_shift when its shift could not be measured, and excluded
+// when its exclude column leaves it out. Each but the last is warned of
+// when the gaugings are checked.
 func gaugingFlags(g gauged.GaugingShift) flagList {
 	var f record.Flag
+	if g.AboveGaugings || g.ShiftedAboveGaugings {
+		f |= record.AboveGaugings
+	}
 	if g.Lookup == gauged.Extrapolated || g.ShiftedLookup == gauged.Extrapolated {
 		f |= record.Extrapolated
 	}
@@ -53,6 +63,9 @@ func gaugingFlags(g gauged.GaugingShift) flagList {
 	if g.NoShift {
 		l = append(l, noShiftFlag)
 	}
+	if g.Excluded {
+		l = append(l, excludedFlag)
+	}
 	return l
 }
 
@@ -67,9 +80,11 @@ func shiftInfoOf(c *gauged.ShiftCheck) ([]periodInfo, []shiftInfo) {
 // whether it lies outside the gauging's quality band; the measured shift,
 // the shift the diagrams apply and the residual between them; the
 // discharge of the shifted rating and the departure from it; the visit
-// (1-based); the flags (gaugingFlags: extrapolated, below_zero_flow,
-// outside_rating, no_rating, no_shift), space-separated. Times are ISO
-// 8601 with the check's offset; undefined values are empty cells.
+// (1-based); the flags (gaugingFlags: above_gaugings, extrapolated,
+// below_zero_flow, outside_rating, no_rating, no_shift, excluded),
+// space-separated; the reason an excluded gauging is left out (its
+// exclude text; empty when kept). Times are ISO 8601 with the check's
+// offset; undefined values are empty cells.
 func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 	bw := bufio.NewWriter(w)
 	z := zoneOf(c.UTCOffset)
@@ -84,7 +99,7 @@ func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 			period, FormatFloat(g.Rated), FormatFloat(g.Departure), fmt.Sprint(g.Outside),
 			FormatLength(g.Shift), FormatLength(g.Applied), FormatLength(g.Residual),
 			FormatFloat(g.Shifted), FormatFloat(g.ShiftedDeparture), fmt.Sprint(g.OutsideShifted), fmt.Sprint(visit[i] + 1), fitCSVText(g.Source),
-			gaugingFlags(g).String()})
+			gaugingFlags(g).String(), fitCSVText(excludeReason(g))})
 	}
 	return bw.Flush()
 }
@@ -131,6 +146,16 @@ type jsonShiftGauging struct {
 	Visit            int      `json:"visit"`
 	Source           string   `json:"source"`
 	Flags            []string `json:"flags"`
+	Exclude          string   `json:"exclude"`
+}
+
+// excludeReason is why a gauging is left out: its exclude text, "" when
+// it is kept.
+func excludeReason(g gauged.GaugingShift) string {
+	if !g.Excluded {
+		return ""
+	}
+	return strings.TrimSpace(g.Exclude)
 }
 
 type jsonVisit struct {
@@ -145,13 +170,14 @@ type jsonVisit struct {
 //	{"units", "gaugings": [{"time", "stage", "discharge", "quality",
 //	  "rating_period", "rated", "departure_percent", "outside_band", "shift",
 //	  "applied_shift", "residual_shift", "shifted", "shifted_departure_percent",
-//	  "outside_band_shifted", "visit", "source", "flags"}],
+//	  "outside_band_shifted", "visit", "source", "flags", "exclude"}],
 //	 "visits": [{"visit", "time", "gaugings", "proposal": [{"stage", "shift"}]}],
 //	 "ratings", "shifts", "warnings", "caution"}
 //
 // ratings and shifts state the rating periods and the diagrams applied, as
 // the record's JSON does; a visit's gaugings are the sources of its
-// gaugings and its proposal is empty when it proposes no diagram.
+// gaugings and its proposal is empty when it proposes no diagram; a
+// gauging's exclude is the reason it is left out ("" when kept).
 // Undefined values are null.
 func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 	z := zoneOf(c.UTCOffset)
@@ -171,7 +197,7 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
 			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
 			Residual: Float(g.Residual), Shifted: Float(g.Shifted), ShiftedDeparture: Float(g.ShiftedDeparture), OutsideShifted: g.OutsideShifted,
-			Visit: visit[i] + 1, Source: g.Source, Flags: append([]string{}, gaugingFlags(g)...)}
+			Visit: visit[i] + 1, Source: g.Source, Flags: append([]string{}, gaugingFlags(g)...), Exclude: excludeReason(g)}
 		if g.Period >= 0 {
 			p := g.Period + 1
 			jg.RatingPeriod = &p
@@ -195,8 +221,8 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 
 // WriteShiftsText writes a shift check for reading: the ratings and
 // diagrams it was measured against, every gauging's departure and shifts,
-// each visit's proposed diagram, the warnings, the caution and the
-// provisional note.
+// the excluded gaugings with their reasons, each visit's proposed diagram,
+// the warnings, the caution and the provisional note.
 func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	bw := bufio.NewWriter(w)
 	z := zoneOf(c.UTCOffset)
@@ -222,11 +248,19 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 			fixed(g.Shift, 3), fixed(g.Applied, 3), fixed(g.Residual, 3), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted), gaugingFlags(g))
 		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 	}
+	if n := excludedCount(c); n > 0 {
+		fmt.Fprintf(bw, "\nExcluded gaugings (left out by their exclude column: no diagram is proposed from them, and they are not marked or counted outside their bands):\n")
+		for _, g := range c.Gaugings {
+			if g.Excluded {
+				fmt.Fprintf(bw, "  %-25s %s%s\n", g.Time.In(z).Format(RecordTimeLayout), excludeReason(g), sourceNote(g.Source))
+			}
+		}
+	}
 	fmt.Fprintf(bw, "\nField visits and the shift diagram each proposes (through its measured shifts; write them with --proposed FILE, edit, and apply them with --shifts FILE):\n")
 	for k, v := range c.Visits {
 		fmt.Fprintf(bw, "  visit %d, %s, %d gauging(s): ", k+1, v.Time.In(z).Format(RecordTimeLayout), len(v.Gaugings))
 		if len(v.Proposal.Points) == 0 {
-			fmt.Fprintln(bw, "no diagram proposed")
+			fmt.Fprintln(bw, "no diagram proposed"+allExcludedNote(c, v))
 			continue
 		}
 		fmt.Fprintln(bw, shiftWords(v.Proposal, u))
@@ -300,19 +334,50 @@ func writeShiftsSummary(b *workbook.Book, c *gauged.ShiftCheck, ps []periodInfo,
 		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"times in", zoneName(z), ""},
-		{"method", "measured shift s with Q_rating(h + s) = Q; diagrams prorated in time between visits (Kennedy, 1983, USGS TWRI 3-A13)", ""},
+		{"method", "measured shift s with Q_rating(h + s) = Q; diagrams prorated in time between visits, from no shift at a rating period's start, none applied before its time (Kennedy, 1983, USGS TWRI 3-A13)", ""},
 		{"gaugings", len(c.Gaugings), ""},
 		{"field visits", len(c.Visits), ""},
 		{"gaugings outside their quality bands (base rating)", out, ""},
 		{"gaugings outside their quality bands (shifted rating)", outShifted, ""},
+		{"gaugings excluded (no diagram proposed from them, not counted outside their bands)", excludedCount(c), ""},
 	}
 	items = append(items, historyItems(ps, ss, z, u)...)
 	items = append(items, SummaryItem{"provisional", record.ProvisionalNote, ""})
 	return WriteSummarySheet(b, SheetSummary, items, c.Warnings)
 }
 
+// excludedCount counts the excluded gaugings.
+func excludedCount(c *gauged.ShiftCheck) int {
+	n := 0
+	for _, g := range c.Gaugings {
+		if g.Excluded {
+			n++
+		}
+	}
+	return n
+}
+
+// allExcludedNote says why a visit whose gaugings are all excluded
+// proposes no diagram ("" otherwise).
+func allExcludedNote(c *gauged.ShiftCheck, v gauged.Visit) string {
+	for _, i := range v.Gaugings {
+		if !c.Gaugings[i].Excluded {
+			return ""
+		}
+	}
+	return ": its gaugings are excluded"
+}
+
+// sourceNote is " [SOURCE]", or "" without a source.
+func sourceNote(s string) string {
+	if s == "" {
+		return ""
+	}
+	return " [" + s + "]"
+}
+
 // outsideCounts counts the gaugings outside their bands on the base and
-// on the shifted rating.
+// on the shifted rating (excluded gaugings never are).
 func outsideCounts(c *gauged.ShiftCheck) (base, shifted int) {
 	for _, g := range c.Gaugings {
 		if g.Outside {
@@ -337,7 +402,11 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 			proposed++
 		}
 	}
-	fmt.Fprintf(bw, "wrote %s: %d gaugings in %d visits, %d outside their bands on the base rating", path, len(c.Gaugings), len(c.Visits), out)
+	fmt.Fprintf(bw, "wrote %s: %d gaugings in %d visits", path, len(c.Gaugings), len(c.Visits))
+	if n := excludedCount(c); n > 0 {
+		fmt.Fprintf(bw, " (%d excluded)", n)
+	}
+	fmt.Fprintf(bw, ", %d outside their bands on the base rating", out)
 	if len(c.History.Shifts) > 0 {
 		fmt.Fprintf(bw, ", %d with the shifts applied", outShifted)
 	}

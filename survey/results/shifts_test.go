@@ -5,6 +5,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"io"
+	"math"
 	"slices"
 	"strings"
 	"testing"
@@ -15,30 +16,51 @@ import (
 	"wetline/survey/results"
 )
 
-// A gauging rated by extrapolation beyond the table, and one at or below
-// the zero-flow stage, are marked in the gauging rows of every format with
-// the record's flag words, after the existing columns and keys. Rating
-// (0.2, 0), (0.7, 2), (1.2, 8), e = 0.2, extrapolation allowed: 1.4 m lies
-// above the last row (extrapolated), 0.1 m below e (rated 0,
-// below_zero_flow), 0.9 m between rows (no flag). By hand from the rows.
-func TestShiftsFlagLookups(t *testing.T) {
+// Each gauging's flags are written in the gauging rows of every format
+// (CSV, JSON, text, workbook) with the record's flag words, and an
+// excluded gauging's reason after them. Rating (0.2, 0), (0.7, 2),
+// (1.2, 8), e = 0.2, extrapolation allowed, highest gauging 1.1 m; by hand
+// from the rows (above 0.7 m Q = 2·((h − 0.2)/0.5)²):
+//
+//	1.4 m lies above the last row and the highest gauging: above_gaugings
+//	  extrapolated;
+//	0.1 m lies below e (rated 0): below_zero_flow;
+//	1.15 m lies between rows, above the highest gauging (Q 7.22):
+//	  above_gaugings, as the record flags it;
+//	0.9 m measuring 3.92 lies on the rating: no flag, shift 0;
+//	0.9 m an hour later measuring 5.0, excluded ("meter fault"): excluded;
+//	  its departure 100·(5 − 3.92)/3.92 = 27.6 % is not marked outside its
+//	  band, and the visit's diagram is drawn through the first 0.9 m gauging
+//	  alone (shift 0), not the mean of 0 and its +0.0906.
+func TestShiftsFlags(t *testing.T) {
 	rt := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.2}, {Stage: 0.7, Discharge: 2}, {Stage: 1.2, Discharge: 8}},
-		HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true}
+		HasZeroFlow: true, ZeroFlow: 0.2, Extrapolate: true, HasHighGauging: true, HighGauging: 1.1}
 	r, err := gauged.History{Periods: []gauged.Period{{Rating: rt}}}.Compile()
 	if err != nil {
 		t.Fatal(err)
 	}
 	at := time.Date(2024, 6, 3, 10, 0, 0, 0, time.UTC)
+	day := 24 * time.Hour
 	gs := []gauged.Gauging{
 		{Time: at, Stage: 1.4, Discharge: 12, Quality: rating.Good},
-		{Time: at.Add(48 * time.Hour), Stage: 0.1, Discharge: 0.2, Quality: rating.Good},
-		{Time: at.Add(96 * time.Hour), Stage: 0.9, Discharge: 3.92, Quality: rating.Good},
+		{Time: at.Add(2 * day), Stage: 0.1, Discharge: 0.2, Quality: rating.Good},
+		{Time: at.Add(4 * day), Stage: 1.15, Discharge: 7.22, Quality: rating.Good},
+		{Time: at.Add(6 * day), Stage: 0.9, Discharge: 3.92, Quality: rating.Good},
+		{Time: at.Add(6*day + time.Hour), Stage: 0.9, Discharge: 5.0, Quality: rating.Good, Exclude: "meter fault"},
 	}
 	c, err := r.CheckGaugings(gs, gauged.CheckOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := []string{"extrapolated", "below_zero_flow", ""}
+	want := []struct{ flags, exclude string }{
+		{"above_gaugings extrapolated", ""}, {"below_zero_flow", ""}, {"above_gaugings", ""}, {"", ""}, {"excluded", "meter fault"},
+	}
+	if g := c.Gaugings[4]; g.Outside || g.OutsideShifted || math.Abs(g.Departure-100*1.08/3.92) > 1e-9 {
+		t.Errorf("excluded gauging: outside %v/%v, departure %v", g.Outside, g.OutsideShifted, g.Departure)
+	}
+	if v := c.Visits[len(c.Visits)-1]; len(v.Gaugings) != 2 || len(v.Proposal.Points) != 1 || math.Abs(v.Proposal.Points[0].Shift) > 1e-9 {
+		t.Errorf("last visit %+v: want both 0.9 m gaugings and a diagram of shift 0", v)
+	}
 
 	var b bytes.Buffer
 	if err := results.WriteShiftsCSV(&b, &c); err != nil {
@@ -49,12 +71,13 @@ func TestShiftsFlagLookups(t *testing.T) {
 		t.Fatal(err)
 	}
 	cols := results.ShiftGaugingColumns()
-	if cols[len(cols)-1] != "flags" || cols[len(cols)-2] != "source" || !slices.Equal(recs[0], cols) {
+	fc, ec := slices.Index(cols, "flags"), slices.Index(cols, "exclude")
+	if fc < 0 || ec != fc+1 || cols[fc-1] != "source" || !slices.Equal(recs[0], cols) {
 		t.Fatalf("columns %q", recs[0])
 	}
 	for i, w := range want {
-		if got := recs[i+1][len(cols)-1]; got != w {
-			t.Errorf("CSV row %d: flags %q, want %q", i+1, got, w)
+		if got := recs[i+1]; got[fc] != w.flags || got[ec] != w.exclude {
+			t.Errorf("CSV row %d: flags %q, exclude %q; want %q, %q", i+1, got[fc], got[ec], w.flags, w.exclude)
 		}
 	}
 
@@ -63,14 +86,17 @@ func TestShiftsFlagLookups(t *testing.T) {
 		t.Fatal(err)
 	}
 	var doc struct {
-		Gaugings []struct{ Flags []string }
+		Gaugings []struct {
+			Flags   []string
+			Exclude string
+		}
 	}
 	if err := json.Unmarshal(b.Bytes(), &doc); err != nil {
 		t.Fatal(err)
 	}
 	for i, w := range want {
-		if got := strings.Join(doc.Gaugings[i].Flags, " "); got != w || doc.Gaugings[i].Flags == nil {
-			t.Errorf("JSON gauging %d: flags %q, want %q", i+1, doc.Gaugings[i].Flags, w)
+		if g := doc.Gaugings[i]; strings.Join(g.Flags, " ") != w.flags || g.Flags == nil || g.Exclude != w.exclude {
+			t.Errorf("JSON gauging %d: flags %q, exclude %q; want %q, %q", i+1, g.Flags, g.Exclude, w.flags, w.exclude)
 		}
 	}
 
@@ -78,13 +104,38 @@ func TestShiftsFlagLookups(t *testing.T) {
 	if err := results.WriteShiftsText(&b, &c); err != nil {
 		t.Fatal(err)
 	}
-	lines := strings.Split(b.String(), "\n")
+	text := b.String()
 	for i, w := range want {
 		stamp := gs[i].Time.Format(time.RFC3339)
-		for _, l := range lines {
-			if strings.HasPrefix(l, "  "+stamp) && w != "" && !strings.HasSuffix(l, " "+w) {
-				t.Errorf("text row %d does not end in %q: %q", i+1, w, l)
+		for _, l := range strings.Split(text, "\n") {
+			if strings.HasPrefix(l, "  "+stamp+" ") && strings.Contains(l, " good ") && w.flags != "" && !strings.HasSuffix(l, " "+w.flags) {
+				t.Errorf("text row %d does not end in %q: %q", i+1, w.flags, l)
 			}
+		}
+	}
+	if !strings.Contains(text, "Excluded gaugings") || !strings.Contains(text, "  "+gs[4].Time.Format(time.RFC3339)+"      meter fault") {
+		t.Errorf("the text does not list the excluded gauging with its reason:\n%s", text)
+	}
+
+	path := t.TempDir() + "/shifts.xlsx"
+	if err := writeFile(path, func(w io.Writer) error { return results.WriteShiftsWorkbook(w, &c) }); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := openBook(t, path).GetRows(results.SheetGaugings)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fx := slices.Index(rows[0], "flags")
+	if fx < 0 || len(rows) != 1+len(gs) {
+		t.Fatalf("sheet rows %q", rows)
+	}
+	for i, w := range want {
+		got := ""
+		if row := rows[i+1]; fx < len(row) {
+			got = row[fx]
+		}
+		if got != w.flags {
+			t.Errorf("sheet row %d: flags %q, want %q", i+1, got, w.flags)
 		}
 	}
 }
