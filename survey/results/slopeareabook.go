@@ -120,7 +120,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 
 func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 	L := rep.Result.Units.Length()
-	s, err := b.Table(SheetReachInputs, []workbook.Column{
+	s, err := reportTable(b, SheetReachInputs, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "survey", Width: 24},
 		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
@@ -154,7 +154,7 @@ func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 func writeSASections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSections, []workbook.Column{
+	s, err := reportTable(b, SheetSections, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
 		{Name: "water_surface", Unit: L, Format: "0.000"},
@@ -184,7 +184,7 @@ func writeSASections(b *workbook.Book, rep reach.Report) error {
 
 func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
-	s, err := b.Table(SheetSubsections, subsectionColumns(workbook.Column{Name: "section", Width: 12}, u))
+	s, err := reportTable(b, SheetSubsections, subsectionColumns(workbook.Column{Name: "section", Width: 12}, u))
 	if err != nil {
 		return err
 	}
@@ -202,7 +202,7 @@ func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSubreaches, []workbook.Column{
+	s, err := reportTable(b, SheetSubreaches, []workbook.Column{
 		{Name: "from", Width: 12},
 		{Name: "to", Width: 12},
 		{Name: "length", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
@@ -236,7 +236,7 @@ func writeSAChecks(b *workbook.Book, rep reach.Report) error {
 		{Name: "status", Width: 10},
 		{Name: "source", Width: 60},
 	}
-	s, err := b.Table(SheetChecks, cols)
+	s, err := reportTable(b, SheetChecks, cols)
 	if err != nil {
 		return err
 	}
@@ -268,7 +268,7 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	s, err := b.Table(SheetUncertainty, []workbook.Column{
+	s, err := reportTable(b, SheetUncertainty, []workbook.Column{
 		{Name: "quantity", Width: 40},
 		{Name: "section", Width: 12},
 		{Name: "value", Format: workbook.FormatSig3, Width: 14},
