@@ -33,8 +33,9 @@ func headerUnit(h string) string {
 
 // checkCellsReported checks every number of every sheet of f (but the
 // pictures') is stored as the reports write it: a length (a column whose
-// header's unit is m or ft; on the summary sheet, an item whose unit is)
-// to results.LengthDecimals decimals, any other number to six significant
+// header's unit is m or ft; on the summary sheet, an item whose unit is;
+// on a rating sheet, the stage and depth, as in the rating CSV) to
+// results.LengthDecimals decimals, any other number to six significant
 // digits. Date-time cells are left alone. It returns the numbers checked.
 func checkCellsReported(t *testing.T, f *excelize.File) int {
 	t.Helper()
@@ -62,7 +63,10 @@ func checkCellsReported(t *testing.T, f *excelize.File) int {
 					continue
 				}
 				isLength := j < len(rows[head]) && length(headerUnit(rows[head][j]))
-				if sheet == results.SheetSummary {
+				switch sheet {
+				case results.SheetRating: // as WriteRatingCSV: stage and depth
+					isLength = j < 2
+				case results.SheetSummary:
 					isLength = len(r) > 2 && length(r[2])
 				}
 				if v == reported(v, isLength) {

@@ -142,11 +142,15 @@ func RatingSheetColumns(t rating.Table) []workbook.Column {
 // column: the longest flag; more flags wrap below.
 const flagsWidth = 17
 
-// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
+// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns),
+// each number as WriteRatingCSV writes it.
 func WriteRatingSheet(b *workbook.Book, name string, t rating.Table) error {
 	s, err := reportTable(b, name, RatingSheetColumns(t))
 	if err != nil {
 		return err
+	}
+	for i := range s.length { // the lengths of the CSV: stage and depth
+		s.length[i] = lengthColumn[i]
 	}
 	ws, err := b.WrapStyle()
 	if err != nil {
