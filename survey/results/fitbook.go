@@ -238,7 +238,8 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("R̂ limit (the chains agree at or below it)", num("0.00", gauged.RHatLimit), "")
 		add("least effective sample size ("+p.ESSParam+")", num("0", p.ESSMin), "")
 		add("acceptance rate", num("0.000", p.Acceptance), "")
-		add("sampling", fmt.Sprintf("%d chains of %d draws after %d pilot iterations, seed %d, %d local mode(s)", p.Chains, p.Draws, p.Pilot, p.Seed, p.Modes), "")
+		add("sampling", fmt.Sprintf("%s of %s after %s, seed %d, %d local mode(s)", counted(p.Chains, "chain", "chains"), counted(p.Draws, "draw", "draws"),
+			counted(p.Pilot, "pilot iteration", "pilot iterations"), p.Seed, p.Modes), "")
 		add("likelihood", p.Likelihood, "")
 	}
 	if j := f.Johnson; j.OK {

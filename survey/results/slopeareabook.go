@@ -57,6 +57,16 @@ func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	return b.Write(w)
 }
 
+// saSubreachesSolved words how the subreaches of a slope-area estimate
+// were solved: "the 2 subreaches solved together", or "its one subreach"
+// for a reach of two sections.
+func saSubreachesSolved(n int) string {
+	if n == 1 {
+		return "its one subreach"
+	}
+	return fmt.Sprintf("the %d subreaches solved together", n)
+}
+
 // saReachName names the reach table read ("reach" when built in code).
 func saReachName(rep reach.Report) string {
 	if rep.Name == "" {
@@ -83,13 +93,13 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("5th percentile", num(workbook.FormatSig3, un.P05), Q)
 		add("median", num(workbook.FormatSig3, un.P50), Q)
 		add("95th percentile", num(workbook.FormatSig3, un.P95), Q)
-		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %d draws (%d without a solution), seed %d: see the uncertainty sheet", un.Draws, un.Failed, un.Seed), "")
+		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %s (%d without a solution), seed %d: see the uncertainty sheet", counted(un.Draws, "draw", "draws"), un.Failed, un.Seed), "")
 	} else {
 		add("band", "no Monte Carlo analysis was run", "")
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
-		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
+		add("method", fmt.Sprintf("slope-area, %s (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", saSubreachesSolved(len(r.Subreaches))), "")
 		add("reach length", num(workbook.DecimalsFormat(lengthDecimals(saDistances(r)...)), r.Length), L)
 		add("fall", num("0.000", r.Fall), L)
 		add("least subreach discharge", num(workbook.FormatSig3, r.SubreachMin), Q)
