@@ -535,8 +535,8 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 			out++
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %s %s outside %s quality bands from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"),
-		agree(out, "lies", "lie"), agree(out, "its", "their"))
+	fmt.Fprintf(bw, "  %d of %s %s outside %s from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"),
+		agree(out, "lies", "lie"), agree(out, "its quality band", "their quality bands"))
 	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, counted(len(c.Gaugings), "gauge height", "gauge heights"),
 		agree(beyond, "differs", "differ"), tol)
 }
