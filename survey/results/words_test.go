@@ -29,7 +29,9 @@ func TestCountWordsOfOne(t *testing.T) {
 		write func(*bytes.Buffer) error
 		want  []string
 	}{
-		{"comparison summary", func(b *bytes.Buffer) error { return results.WriteComparisonSummary(b, "A against B", 1, nil, "out.csv") },
+		{"comparison summary", func(b *bytes.Buffer) error {
+			return results.WriteComparisonSummary(b, "A against B", 1, nil, "out.csv")
+		},
 			[]string{"wrote out.csv: A against B, 1 stage\n"}},
 		{"slope-area text", func(b *bytes.Buffer) error { return results.WriteSlopeAreaText(b, rep) },
 			[]string{"slope-area, its one subreach (Dalrymple", "Quality checks (1 of 2 passes)"}},
