@@ -33,8 +33,8 @@ var ErrWorkbookRows = errors.New("too many rows for a workbook sheet")
 func CheckRatingWorkbook(stages, subs int) error {
 	rows := stages * max(subs, 1)
 	if rows+1 > workbook.MaxRows {
-		return fmt.Errorf("%w: %d stages × %d subsections is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
-			ErrWorkbookRows, stages, subs, rows, workbook.MaxRows-1)
+		return fmt.Errorf("%w: %d stages × %s is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
+			ErrWorkbookRows, stages, counted(subs, "subsection", "subsections"), rows, workbook.MaxRows-1)
 	}
 	return nil
 }

@@ -12,7 +12,8 @@ import (
 )
 
 // Counts of one read right in the reports' lines: "1 stage", "its one
-// subreach", "1 of 2 checks warns", "1 of 2 passes", "1 of 1 section".
+// subreach", "1 of 2 checks warns", "1 of 2 passes", "1 of 1 section",
+// "1 subsection".
 // A reach of two sections (one subreach, invented) with one check passing
 // and one warning.
 func TestCountWordsOfOne(t *testing.T) {
@@ -37,6 +38,10 @@ func TestCountWordsOfOne(t *testing.T) {
 			[]string{"slope-area, its one subreach (Dalrymple", "Quality checks (1 of 2 passes)"}},
 		{"slope-area summary", func(b *bytes.Buffer) error { return results.WriteSlopeAreaSummary(b, rep, "out.txt") },
 			[]string{", 1 of 2 checks warns\n"}},
+		{"workbook too long", func(b *bytes.Buffer) error {
+			_, err := b.WriteString(results.CheckRatingWorkbook(2_000_000, 1).Error())
+			return err
+		}, []string{"2000000 stages × 1 subsection is 2000000 rows"}},
 		{"batch summary", func(b *bytes.Buffer) error {
 			return results.WriteBatchSummary(b, []results.IndexEntry{{Section: "XS-1", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}}, "out", false)
 		}, []string{"rated 1 of 1 section into out"}},
