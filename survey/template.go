@@ -53,9 +53,9 @@ const (
 )
 
 // SectionHeaderRow is the 1-based row of the column headers on the field
-// workbook's cross-section and coordinate sheets: below the site block,
-// which holds one key row per metadata key (MetaKeys), data from the row
-// after. The reach and gaugings sheets have their headers in row 1.
+// workbook's cross-section, coordinate and gaugings sheets: below the site
+// block, which holds one key row per metadata key (MetaKeys), data from
+// the row after. The reach sheet has its headers in row 1.
 const SectionHeaderRow = 6
 
 // SectionSheetName names the i-th (1-based) cross-section sheet: "XS-1".
@@ -93,14 +93,15 @@ func templateTimeMax() float64 {
 // survey, distance, ws_left, ws_right, quality, the flow lengths
 // left_length, channel_length, right_length, structure, note), a gaugings
 // sheet (time, stage, discharge, quality, uncertainty, exclude, note) and
-// an instructions sheet, on which the workbook opens. The cross-section
-// and coordinate sheets start with a site block, a key and a value per
-// row for each of MetaKeys (filled from a prefilled survey's Site), with
-// their headers below it in SectionHeaderRow; the reach and gaugings
-// sheets have their headers in row 1. Headers are styled and frozen, with
+// an instructions sheet, on which the workbook opens. The cross-section,
+// coordinate and gaugings sheets start with a site block, a key and a
+// value per row for each of MetaKeys (filled from a prefilled survey's
+// Site, or from Site), with their headers below it in SectionHeaderRow;
+// the reach sheet has its headers in row 1. Headers are styled and frozen, with
 // units in brackets; cells below carry validation rules and drop-down
 // lists. Every sheet reads back through ReadTable, the cross-section and
-// coordinate sheets through ReadSection with their site in Survey.Site.
+// coordinate sheets through ReadSection with their site in Survey.Site,
+// the gaugings sheet through ReadGaugings with its site in Gaugings.Site.
 // A prefilled survey whose headers name a unit system other than Units is
 // refused (ErrUnitsDisagree).
 func WriteTemplate(w io.Writer, opt TemplateOptions) error {
@@ -144,7 +145,7 @@ func WriteTemplate(w io.Writer, opt TemplateOptions) error {
 	if err := b.InputSheet(FieldSheetReach, reachColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
-	if err := b.InputSheet(FieldSheetGaugings, gaugingColumns(opt.Units), opt.Rows, nil); err != nil {
+	if err := b.KeyedInputSheet(FieldSheetGaugings, siteRows(opt.Site), gaugingColumns(opt.Units), opt.Rows, nil); err != nil {
 		return err
 	}
 	if err := instructionSheet(b, opt, names); err != nil {
@@ -387,8 +388,8 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet (or by grid coordinates on the coordinates sheet), " +
 			"the reach and its high-water marks, and discharge measurements. " +
 			"Fill the cream cells; keep the header rows as they are. Blank rows are skipped; extra columns to the right are kept but not read."},
-		{"site block", fmt.Sprintf("The first %d rows of each cross-section and coordinate sheet name the site: %s. "+
-			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points below them.",
+		{"site block", fmt.Sprintf("The first %d rows of each cross-section sheet, the coordinate sheet and the gaugings sheet name the site: %s. "+
+			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points or gaugings below them.",
 			len(MetaKeys()), strings.Join(MetaKeys(), ", "), SectionHeaderRow)},
 		{"units", fmt.Sprintf("Lengths, stations and elevations in %s; discharge in %s; Manning's n as usual (the same number in every unit system). "+
 			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: name it in the site block.", L, Q)},

@@ -47,7 +47,7 @@ func openBook(t *testing.T, path string) *excelize.File {
 // headerRow returns the row of a field workbook sheet's column headers.
 func headerRow(sheet string) int {
 	switch sheet {
-	case survey.FieldSheetReach, survey.FieldSheetGaugings, survey.FieldSheetInstructions:
+	case survey.FieldSheetReach, survey.FieldSheetInstructions:
 		return 1
 	}
 	return survey.SectionHeaderRow
@@ -286,7 +286,8 @@ func TestFilledTemplateReads(t *testing.T) {
 		{16.0, 10.4, nil, nil, "right pin", ""},
 	})
 	dt := time.Date(2026, 3, 14, 9, 30, 0, 0, time.UTC)
-	fillSheet(t, f, "gaugings", 2, [][]any{
+	gr := headerRow(survey.FieldSheetGaugings)
+	fillSheet(t, f, "gaugings", gr+1, [][]any{
 		{dt, 1.25, 3.4, "good", ""},
 		{"2026-04-02 16:45", "1.6", "7.9", "fair", "text date"},
 		{},
@@ -340,7 +341,7 @@ func TestFilledTemplateReads(t *testing.T) {
 	if !errors.As(err, &pe) || !errors.Is(err, survey.ErrISOTime) {
 		t.Fatalf("day-first date: %v, want ErrISOTime", err)
 	}
-	if want := "field.xlsx['gaugings']!A5"; !strings.HasSuffix(pe.Position(), want) {
+	if want := fmt.Sprintf("field.xlsx['gaugings']!A%d", gr+4); !strings.HasSuffix(pe.Position(), want) {
 		t.Errorf("position %q, want …%s", pe.Position(), want)
 	}
 }
@@ -512,7 +513,7 @@ func TestTemplateSiteBlock(t *testing.T) {
 		t.Errorf("blank sheet: site %+v, meta %q", tab.Site(), tab.Meta)
 	}
 	f := openBook(t, path)
-	for _, sheet := range []string{"tallow-xs1", "XS-1", "coordinates"} {
+	for _, sheet := range []string{"tallow-xs1", "XS-1", "coordinates", survey.FieldSheetGaugings} {
 		dvs, err := f.GetDataValidations(sheet)
 		if err != nil {
 			t.Fatal(err)
@@ -625,6 +626,54 @@ func TestTemplateCoordinateSheet(t *testing.T) {
 	}
 }
 
+// TestTemplateGaugingsSiteBlock: the gaugings sheet has the site block
+// of the section sheets, which ReadGaugings reads into Gaugings.Site: the
+// template's site when one is given, else what the crew writes beside the
+// keys.
+func TestTemplateGaugingsSiteBlock(t *testing.T) {
+	site := rating.Site{Name: "Tallow Creek at Mill Lane (invented)", ID: "0412", Datum: "gauge zero 100.000 (invented)"}
+	d := time.Date(2026, 3, 14, 9, 30, 0, 0, time.UTC)
+	gaugings := [][]any{{d, 1.25, 3.4, "good"}, {d.Add(48 * time.Hour), 1.6, 7.9, "fair"}}
+	for _, tc := range []struct {
+		name  string
+		opt   survey.TemplateOptions
+		typed map[string]string // cells the crew fills in the site block
+		want  rating.Site
+	}{
+		{"from the template's site", survey.TemplateOptions{Site: site, Rows: 10}, nil, site},
+		{"typed by the crew", survey.TemplateOptions{Rows: 10}, map[string]string{"B1": "Heron Brook (invented)", "B3": "2026-03-14", "B5": "EF"},
+			rating.Site{Name: "Heron Brook (invented)", Surveyed: "2026-03-14", Crew: "EF"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			path := writeTemplate(t, tc.opt)
+			f, err := excelize.OpenFile(path)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for cell, v := range tc.typed {
+				if err := f.SetCellStr(survey.FieldSheetGaugings, cell, v); err != nil {
+					t.Fatal(err)
+				}
+			}
+			fillSheet(t, f, survey.FieldSheetGaugings, survey.SectionHeaderRow+1, gaugings)
+			if err := f.Save(); err != nil {
+				t.Fatal(err)
+			}
+			f.Close()
+			gs, err := survey.ReadGaugings(path, survey.FieldSheetGaugings)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if gs.Site != tc.want || len(gs.Gaugings) != len(gaugings) {
+				t.Errorf("site %+v and %d gaugings, want %+v and %d", gs.Site, len(gs.Gaugings), tc.want, len(gaugings))
+			}
+			if want := fmt.Sprintf("field.xlsx['gaugings'] row %d", survey.SectionHeaderRow+1); !strings.HasSuffix(gs.Gaugings[0].Source, want) {
+				t.Errorf("first gauging from %q, want …%s", gs.Gaugings[0].Source, want)
+			}
+		})
+	}
+}
+
 // TestTemplateGaugingColumns fills the gaugings sheet's optional columns:
 // the uncertainty overrides the grade's band, any exclude text is kept as
 // the reason; an uncertainty of 100 % is refused at its cell.
@@ -635,7 +684,8 @@ func TestTemplateGaugingColumns(t *testing.T) {
 		t.Fatal(err)
 	}
 	d := time.Date(2026, 3, 14, 9, 30, 0, 0, time.UTC)
-	fillSheet(t, f, survey.FieldSheetGaugings, 2, [][]any{
+	gr := headerRow(survey.FieldSheetGaugings)
+	fillSheet(t, f, survey.FieldSheetGaugings, gr+1, [][]any{
 		{d, 1.25, 3.4, "good", 6.5, "", "wading"},
 		{d.Add(48 * time.Hour), 1.6, 7.9, "fair", nil, "weed on the control", ""},
 		{d.Add(96 * time.Hour), 1.1, 2.0, "poor", "12", "", ""},
@@ -661,7 +711,8 @@ func TestTemplateGaugingColumns(t *testing.T) {
 			t.Errorf("gauging %d: uncertainty %g exclude %q note %q discharge %g, want %+v", i, g.Uncertainty, g.Exclude, g.Note, g.Discharge, want)
 		}
 	}
-	if err := f.SetCellFloat(survey.FieldSheetGaugings, "E3", 100, -1, 64); err != nil {
+	e := "E" + strconv.Itoa(gr+2) // the second gauging's uncertainty
+	if err := f.SetCellFloat(survey.FieldSheetGaugings, e, 100, -1, 64); err != nil {
 		t.Fatal(err)
 	}
 	if err := f.Save(); err != nil {
@@ -669,8 +720,8 @@ func TestTemplateGaugingColumns(t *testing.T) {
 	}
 	f.Close()
 	_, err = survey.ReadGaugings(path, "")
-	if !errors.Is(err, survey.ErrUncertainty) || !strings.Contains(err.Error(), "['gaugings']!E3") {
-		t.Errorf("uncertainty 100: %v, want ErrUncertainty at E3", err)
+	if !errors.Is(err, survey.ErrUncertainty) || !strings.Contains(err.Error(), "['gaugings']!"+e) {
+		t.Errorf("uncertainty 100: %v, want ErrUncertainty at %s", err, e)
 	}
 }
 
@@ -912,7 +963,7 @@ func TestTemplateExcludeKeepWords(t *testing.T) {
 	for i, w := range survey.KeepWords() {
 		rows = append(rows, []any{d.Add(time.Duration(i) * time.Hour), 1 + 0.1*float64(i), 2 + float64(i), "good", nil, strings.ToUpper(w)})
 	}
-	fillSheet(t, f, survey.FieldSheetGaugings, 2, rows)
+	fillSheet(t, f, survey.FieldSheetGaugings, headerRow(survey.FieldSheetGaugings)+1, rows)
 	instr, err := f.GetRows(survey.FieldSheetInstructions)
 	if err != nil {
 		t.Fatal(err)

@@ -135,10 +135,22 @@ func summary(t *testing.T, f *excelize.File) map[string]string {
 	return out
 }
 
-// relClose: values written to a workbook keep 15 significant digits
-// (excelize writes floats with 15 significant digits), so a cell
-// read back is within this relative distance of the value written.
-const relClose = 1e-13
+// sameCell reports whether a number read from a results workbook is the
+// value computed (want) as the reports write it: to six significant
+// figures (results.FormatFloat) or, a length, to results.LengthDecimals
+// decimals (results.FormatLength).
+func sameCell(got, want float64) bool {
+	for _, s := range []string{results.FormatFloat(want), results.FormatLength(want)} {
+		if v, err := strconv.ParseFloat(s, 64); err == nil && v == got {
+			return true
+		}
+	}
+	return got == want
+}
+
+// sixFigures is the relative distance of a value from its six
+// significant figures: half a unit of the sixth.
+const sixFigures = 5e-6
 
 func closeTo(a, b, rel float64) bool {
 	return a == b || math.Abs(a-b) <= rel*math.Max(math.Abs(a), math.Abs(b))
@@ -211,7 +223,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 	}
 	for item, want := range map[string]float64{"weighted standard error of estimate": rep.SEPercent,
 		"control 1: exponent C": rep.Segments[0].B, "control 1: offset B": rep.Segments[0].E} {
-		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
+		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !sameCell(v, want) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
 		}
 	}
@@ -232,7 +244,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 	g.col(t, "n")
 	low, high := math.Inf(1), math.Inf(-1)
 	for i, jg := range rep.Gaugings {
-		if !closeTo(g.num(t, i, cq), jg.Discharge, relClose) || !closeTo(g.num(t, i, cf), jg.Fitted, relClose) || !closeTo(g.num(t, i, cd), jg.Departure, relClose) {
+		if !sameCell(g.num(t, i, cq), jg.Discharge) || !sameCell(g.num(t, i, cf), jg.Fitted) || !sameCell(g.num(t, i, cd), jg.Departure) {
 			t.Errorf("gauging %d: %q, want %+v", i+1, g.rows[i+1], jg)
 		}
 		if !jg.Excluded {
@@ -254,7 +266,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 	table := map[float64]float64{}
 	marked := 0
 	for i, jr := range rep.Table {
-		if !closeTo(ft.num(t, i, cs), jr.Stage, relClose) || !closeTo(ft.num(t, i, cq), jr.Discharge, relClose) {
+		if !sameCell(ft.num(t, i, cs), jr.Stage) || !sameCell(ft.num(t, i, cq), jr.Discharge) {
 			t.Errorf("table row %d: %q, want %+v", i+1, ft.rows[i+1], jr)
 		}
 		fill, format := ft.style(t, i, cq)
@@ -334,12 +346,12 @@ func TestFitResultsWorkbook(t *testing.T) {
 			}
 			cells++
 			got := lk.num(t, i, j)
-			if want := rule(h); !closeTo(got, want, ruleTol) {
+			if want := rule(h); !closeTo(got, want, sixFigures+ruleTol) { // the cell holds six figures
 				t.Errorf("lookup at %.2f: %.9g, want %.9g", h, got, want)
 			}
 			if q, ok := table[h]; ok {
 				onTable++
-				if !closeTo(got, q, relClose) {
+				if !sameCell(got, q) {
 					t.Errorf("lookup at %.2f: %g, the fitted rating sheet %g", h, got, q)
 				}
 			}
@@ -378,7 +390,7 @@ func TestFitResultsWorkbook(t *testing.T) {
 		t.Fatalf("%d gaugings read back, want %d", len(back.Gaugings), len(rep.Gaugings))
 	}
 	for i, bg := range back.Gaugings {
-		if jg := rep.Gaugings[i]; !closeTo(bg.Stage, jg.Stage, relClose) || !closeTo(bg.Discharge, jg.Discharge, relClose) {
+		if jg := rep.Gaugings[i]; !sameCell(bg.Stage, jg.Stage) || !sameCell(bg.Discharge, jg.Discharge) {
 			t.Errorf("gauging %d read back as %+v, want %+v", i+1, bg, jg)
 		}
 	}
@@ -485,7 +497,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	sum := summary(t, f)
 	for item, want := range map[string]float64{"peak discharge": rep.Discharge, "5th percentile": rep.Uncertainty.P05,
 		"median": rep.Uncertainty.P50, "95th percentile": rep.Uncertainty.P95} {
-		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !closeTo(v, want, relClose) {
+		if v, err := strconv.ParseFloat(sum[item], 64); err != nil || !sameCell(v, want) {
 			t.Errorf("summary %q = %q, want %g", item, sum[item], want)
 		}
 	}
@@ -512,10 +524,10 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Fatalf("rows: inputs %d, sections %d, subreaches %d", len(in.rows)-1, len(sec.rows)-1, len(sub.rows)-1)
 	}
 	for i, s := range rep.Sections {
-		if in.rows[i+1][0] != s.ID || sec.rows[i+1][0] != s.ID || !closeTo(in.num(t, i, in.col(t, "ws_left")), s.WSLeft, relClose) ||
-			!closeTo(sec.num(t, i, sec.col(t, "conveyance")), s.Conveyance, relClose) ||
-			!closeTo(sec.num(t, i, sec.col(t, "froude")), s.Froude, relClose) ||
-			!closeTo(sec.num(t, i, sec.col(t, "water_surface")), s.WaterSurface, relClose) {
+		if in.rows[i+1][0] != s.ID || sec.rows[i+1][0] != s.ID || !sameCell(in.num(t, i, in.col(t, "ws_left")), s.WSLeft) ||
+			!sameCell(sec.num(t, i, sec.col(t, "conveyance")), s.Conveyance) ||
+			!sameCell(sec.num(t, i, sec.col(t, "froude")), s.Froude) ||
+			!sameCell(sec.num(t, i, sec.col(t, "water_surface")), s.WaterSurface) {
 			t.Errorf("section %s: inputs %q, sections %q", s.ID, in.rows[i+1], sec.rows[i+1])
 		}
 	}
@@ -528,7 +540,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	for _, s := range rep.Sections {
 		for _, x := range s.Subsections {
 			if k+1 >= len(ns.rows) || ns.rows[k+1][0] != s.ID || ns.num(t, k, ns.col(t, "n")) != x.N ||
-				!closeTo(ns.num(t, k, ns.col(t, "conveyance")), x.Conveyance, relClose) {
+				!sameCell(ns.num(t, k, ns.col(t, "conveyance")), x.Conveyance) {
 				t.Errorf("subsection row %d: %q, want %s n %g", k+1, ns.rows[min(k+1, len(ns.rows)-1)], s.ID, x.N)
 			}
 			k++
@@ -538,7 +550,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 		t.Errorf("%d subsection rows, %d in the JSON", len(ns.rows)-1, k)
 	}
 	for i, s := range rep.Subreaches {
-		if sub.rows[i+1][0] != s.From || !closeTo(sub.num(t, i, sub.col(t, "discharge")), s.Discharge, relClose) {
+		if sub.rows[i+1][0] != s.From || !sameCell(sub.num(t, i, sub.col(t, "discharge")), s.Discharge) {
 			t.Errorf("subreach %d: %q, want %+v", i+1, sub.rows[i+1], s)
 		}
 	}
@@ -551,7 +563,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	for i, c := range rep.Checks {
 		row := ch.rows[i+1]
 		if row[0] != c.Name || row[ch.col(t, "status")] != c.Status || row[ch.col(t, "source")] != c.Source ||
-			!closeTo(ch.num(t, i, ch.col(t, "value")), c.Value, relClose) {
+			!sameCell(ch.num(t, i, ch.col(t, "value")), c.Value) {
 			t.Errorf("check %d: %q, want %+v", i+1, row, c)
 		}
 		if fill, _ := ch.style(t, i, ch.col(t, "status")); (fill == workbook.MarkFill) != !c.Pass {
@@ -572,7 +584,7 @@ func TestSlopeAreaResultsWorkbook(t *testing.T) {
 	}
 	for key, want := range map[string]float64{"discharge, 5th percentile|": rep.Uncertainty.P05, "discharge, median|": rep.Uncertainty.P50,
 		"discharge, 95th percentile|": rep.Uncertainty.P95} {
-		if v, err := strconv.ParseFloat(got[key], 64); err != nil || !closeTo(v, want, relClose) {
+		if v, err := strconv.ParseFloat(got[key], 64); err != nil || !sameCell(v, want) {
 			t.Errorf("uncertainty %q = %q, want %g", key, got[key], want)
 		}
 	}

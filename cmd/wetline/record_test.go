@@ -514,7 +514,7 @@ func TestRecordMissingValueCode(t *testing.T) {
 	if got != want {
 		t.Errorf("daily row with the code\n%s\nwant that without its row\n%s", got, want)
 	}
-	if !strings.Contains(out, "1 reading(s) lie below the lowest row of their rating table") || !strings.Contains(out, "left out as missing readings") || strings.Contains(out, "below_zero_flow") {
+	if !strings.Contains(out, "1 reading lies below the lowest row of its rating table") || !strings.Contains(out, "left out as missing readings") || strings.Contains(out, "below_zero_flow") {
 		t.Errorf("report:\n%s", out)
 	}
 }
@@ -599,7 +599,7 @@ func TestRecordGaugeStages(t *testing.T) {
 		"shift used  recorded difference\n",
 		"     0.980    -0.030!\n", // 10:30
 		"         -         -\n",  // 14:00, in the gap
-		"  1 of 2 gauge heights differ from the recorded stage by more than 0.02 m\n",
+		"  1 of 2 gauge heights differs from the recorded stage by more than 0.02 m\n",
 		"warning: 2 of 4 gaugings lie outside the record's span, from 2024-05-01T00:00:00Z to 2024-05-02T23:00:00Z, and are not checked against it (1 before its first reading, 1 after its last)\n",
 		"warning: " + gaugings + ":3: gauging of 2024-05-01T10:30:00Z read gauge height 0.95 m where the record gives 0.980 m (linear between the readings of 2024-05-01T09:00:00Z (0.84 m) and 2024-05-01T12:00:00Z (1.12 m)): gauging − record = -0.030 m, more than the tolerance 0.02 m",
 		"warning: " + gaugings + ":4: gauging of 2024-05-01T14:00:00Z: no recorded stage",

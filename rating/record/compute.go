@@ -330,9 +330,11 @@ const FarBelowTable = 1
 func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string {
 	at := func(t int64) string { return time.Unix(t, 0).In(z).Format(time.RFC3339) }
 	if l.below > 0 {
-		warnings = append(warnings, fmt.Sprintf("%d of %d readings lie below the gauge height of zero flow of their rating and are rated 0 "+
+		k := l.below
+		warnings = append(warnings, fmt.Sprintf("%d of %s %s below the gauge height of zero flow of %s rating and %s rated 0 "+
 			"(the lowest %g at %s): a reading far below zero flow may be a logger's missing-value code, which pulls daily means down; "+
-			"leave the stage of a missing reading blank", l.below, n, l.lowest, at(l.lowestAt)))
+			"leave the stage of a missing reading blank", k, counted(n, "reading", "readings"), agree(k, "lies", "lie"), agree(k, "its", "their"),
+			agree(k, "is", "are"), l.lowest, at(l.lowestAt)))
 	}
 	return warnings
 }
@@ -388,8 +390,9 @@ func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []Uni
 		}
 		kept = append(kept, units[i])
 	}
-	return out, kept, fmt.Sprintf("%d reading(s) lie below the lowest row of their rating table by more than the table's whole stage range "+
-		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings", n, st.Stage[first],
+	return out, kept, fmt.Sprintf("%s %s below the lowest row of %s rating table by more than the table's whole stage range "+
+		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings",
+		counted(n, "reading", "readings"), agree(n, "lies", "lie"), agree(n, "its", "their"), st.Stage[first],
 		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
 }
 
@@ -424,18 +427,21 @@ var lookupFlag = [...]Flag{
 // summarize words the warnings on what the record holds.
 func (res *Result) summarize(c *counter) {
 	n := len(res.Units)
-	say := func(k int, what string) {
+	say := func(k int, one, many string) {
 		if k > 0 {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %d readings %s", k, n, what))
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %s %s", k, counted(n, "reading", "readings"), agree(k, one, many)))
 		}
 	}
-	say(c.flags[bit(NoRating)], "have no rating in force: no discharge")
-	say(c.flags[bit(OutsideRating)], "are outside the rating table: no discharge (the rating does not allow extrapolation)")
-	say(c.flags[bit(Extrapolated)], "are outside the rating table: discharge extrapolated, as the rating asks")
-	say(c.flags[bit(AboveGaugings)], "are above the highest gauging of their rating")
+	say(c.flags[bit(NoRating)], "has no rating in force: no discharge", "have no rating in force: no discharge")
+	say(c.flags[bit(OutsideRating)], "is outside the rating table: no discharge (the rating does not allow extrapolation)",
+		"are outside the rating table: no discharge (the rating does not allow extrapolation)")
+	say(c.flags[bit(Extrapolated)], "is outside the rating table: discharge extrapolated, as the rating asks",
+		"are outside the rating table: discharge extrapolated, as the rating asks")
+	say(c.flags[bit(AboveGaugings)], "is above the highest gauging of its rating", "are above the highest gauging of their rating")
 	if c.gaps > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gaps longer than %s are not bridged (the longest %s, from %s)",
-			c.gaps, FormatDuration(res.MaxGap), formatSeconds(c.longest), time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%s longer than %s %s not bridged (the longest %s, from %s)",
+			counted(c.gaps, "gap", "gaps"), FormatDuration(res.MaxGap), agree(c.gaps, "is", "are"), formatSeconds(c.longest),
+			time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
 	}
 }
 

@@ -148,10 +148,11 @@ func (res *Result) checkGaugings(r *gauged.Rater, gs []gauged.Gauging, tol float
 func (res *Result) leftOutWarning(left, of, before, after int) string {
 	n := len(res.Units)
 	if n == 0 {
-		return fmt.Sprintf("%d of %d gaugings are not checked against the record: it keeps no reading", left, of)
+		return fmt.Sprintf("%d of %s %s not checked against the record: it keeps no reading", left, counted(of, "gauging", "gaugings"), agree(left, "is", "are"))
 	}
-	return fmt.Sprintf("%d of %d gaugings lie outside the record's span, from %s to %s, and are not checked against it (%d before its first reading, %d after its last)",
-		left, of, res.at(res.Units[0].Time), res.at(res.Units[n-1].Time), before, after)
+	return fmt.Sprintf("%d of %s %s outside the record's span, from %s to %s, and %s not checked against it (%d before its first reading, %d after its last)",
+		left, counted(of, "gauging", "gaugings"), agree(left, "lies", "lie"), res.at(res.Units[0].Time), res.at(res.Units[n-1].Time),
+		agree(left, "is", "are"), before, after)
 }
 
 // at writes Unix seconds in the result's zone.

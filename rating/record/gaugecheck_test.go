@@ -124,6 +124,11 @@ func TestGaugingsOutsideSpan(t *testing.T) {
 	if n != 1 || !hasWarning(res.Warnings, want) {
 		t.Errorf("%d warnings of the span, want one %q: %q", n, want, res.Warnings)
 	}
+	// One left out of two: the verbs agree with the one.
+	res = compute(t, gaugeRecord(), r, Options{Gaugings: gs[1:3]})
+	if want := "1 of 2 gaugings lies outside the record's span, from 2024-01-01T00:00:00Z to 2024-01-01T09:00:00Z, and is not checked against it (1 before its first reading, 0 after its last)"; !hasWarning(res.Warnings, want) {
+		t.Errorf("one left out: warnings %q, want %q", res.Warnings, want)
+	}
 	// None within the span: nothing checked, the count stated.
 	res = compute(t, gaugeRecord(), r, Options{Gaugings: gs[:2]})
 	if res.Gaugings != nil || res.GaugeStages != nil || res.GaugingsLeftOut != 2 || !hasWarning(res.Warnings, "2 of 2 gaugings lie outside") {

@@ -184,7 +184,7 @@ func TestFlags(t *testing.T) {
 	if math.Abs(d.Coverage-2.0/24) > coverageTol || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
 		t.Errorf("day: coverage %v flags %q", d.Coverage, d.Flags)
 	}
-	if len(res.Warnings) != 4 || !strings.HasPrefix(res.Warnings[0], "1 of 7 readings lie below the gauge height of zero flow") {
+	if len(res.Warnings) != 4 || !strings.HasPrefix(res.Warnings[0], "1 of 7 readings lies below the gauge height of zero flow") {
 		t.Errorf("warnings %q", res.Warnings)
 	}
 }
@@ -211,15 +211,15 @@ func TestLowReadingWarnings(t *testing.T) {
 			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T01:00:00Z)", ""},
 		// A missing-value code is left out: the other three are rated.
 		{"a missing-value code", withE, stages(0, 1, 1, -9999, 2, 0.1, 3, 1),
-			"1 of 3 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T02:00:00Z)",
-			"1 reading(s) lie below the lowest row of their rating table by more than the table's whole stage range " +
+			"1 of 3 readings lies below the gauge height of zero flow of its rating and is rated 0 (the lowest 0.1 at 2024-01-01T02:00:00Z)",
+			"1 reading lies below the lowest row of its rating table by more than the table's whole stage range " +
 				"(the first -9999 at 2024-01-01T01:00:00Z): read as missing-value codes (such as -9999), left out as missing readings"},
 		// 0.5 − 2.5 = −2: −2 itself is not far below, −2.01 is.
-		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lie below the gauge height of zero flow", ""},
+		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lies below the gauge height of zero flow", ""},
 		{"beyond the bound", withE, stages(0, 1, 1, -2.01, 2, 1), "",
-			"1 reading(s) lie below the lowest row of their rating table"},
+			"1 reading lies below the lowest row of its rating table"},
 		{"no zero flow: outside the table", noE, stages(0, 1, 1, -9999, 2, -999), "",
-			"2 reading(s) lie below the lowest row of their rating table by more than the table's whole stage range (the first -9999"},
+			"2 readings lie below the lowest row of their rating table by more than the table's whole stage range (the first -9999"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res := compute(t, tc.st, rater(t, gauged.History{Periods: []gauged.Period{{Rating: tc.rt}}}), Options{})
@@ -399,7 +399,7 @@ func TestLongestSpan(t *testing.T) {
 	if last := res.Daily[len(res.Daily)-1].Date; !last.Equal(time.Date(2200, 12, 31, 0, 0, 0, 0, time.UTC)) {
 		t.Errorf("last day %v", last)
 	}
-	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "1 gaps longer than 2h are not bridged (the longest 3515063h45m, from 1800-01-01T00:15:00Z)") {
+	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "1 gap longer than 2h is not bridged (the longest 3515063h45m, from 1800-01-01T00:15:00Z)") {
 		t.Errorf("warnings %q", res.Warnings)
 	}
 }
@@ -457,5 +457,30 @@ func TestDailyExtremesAtMidnight(t *testing.T) {
 				t.Errorf("%s: day %d: min %v at %v, max %v at %v; want %+v", tc.name, i+1, d.Min, d.MinTime, d.Max, d.MaxTime, w)
 			}
 		}
+	}
+}
+
+// TestCountWords: the record's count warnings read right for one and for
+// more: "1 gap longer than 2h is", "2 gaps longer than 2h are", "1 of 3
+// readings is outside", on the rating Q = 2·h from 0 to 10 m.
+func TestCountWords(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("r", 2)}}})
+	for _, tc := range []struct {
+		name string
+		st   *Stages
+		want string
+	}{
+		{"one gap", stages(0, 1, 1, 1, 5, 1), "1 gap longer than 2h is not bridged (the longest 4h, from 2024-01-01T01:00:00Z)"},
+		{"two gaps", stages(0, 1, 3, 1, 6, 1), "2 gaps longer than 2h are not bridged (the longest 3h, from 2024-01-01T00:00:00Z)"},
+		{"one reading outside", stages(0, 1, 1, 11, 2, 1), "1 of 3 readings is outside the rating table: no discharge"},
+		{"two readings outside", stages(0, 12, 1, 11, 2, 1), "2 of 3 readings are outside the rating table: no discharge"},
+		{"one reading far below", stages(0, 1, 1, -9999, 2, 1), "1 reading lies below the lowest row of its rating table"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := compute(t, tc.st, r, Options{})
+			if !slices.ContainsFunc(res.Warnings, func(w string) bool { return strings.HasPrefix(w, tc.want) }) {
+				t.Errorf("warnings %q, want one beginning %q", res.Warnings, tc.want)
+			}
+		})
 	}
 }

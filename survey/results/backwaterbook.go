@@ -134,7 +134,7 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 		{Name: "critical", Width: 10},
 		{Name: "unsettled", Width: 10},
 	}
-	s, err := b.Table(SheetConvergence, cols)
+	s, err := reportTable(b, SheetConvergence, cols)
 	if err != nil {
 		return err
 	}
@@ -163,7 +163,7 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 func writeBWProfiles(b *workbook.Book, rep reach.BackwaterReport) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetProfiles, []workbook.Column{
+	s, err := reportTable(b, SheetProfiles, []workbook.Column{
 		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "section", Width: 12},
 		{Name: "distance", Unit: L, Format: "0.0"},
@@ -226,7 +226,7 @@ func writeBWVerification(b *workbook.Book, rep reach.BackwaterReport) error {
 		{Name: "band", Unit: L, Format: "0.000"},
 		{Name: "outside", Width: 10},
 	}
-	s, err := b.Table(SheetVerification, cols)
+	s, err := reportTable(b, SheetVerification, cols)
 	if err != nil {
 		return err
 	}

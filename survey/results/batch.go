@@ -44,7 +44,8 @@ const WarningSeparator = " | "
 
 // WriteIndexCSV writes the index of a batch rating: a header row
 // (IndexColumns()) and one row per entry, in the order given. Undefined
-// numbers are empty cells; a skipped section's note leads its warnings.
+// numbers are empty cells; stages are written as lengths (FormatLength),
+// as in the rating tables; a skipped section's note leads its warnings.
 func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 	cw := csv.NewWriter(w)
 	cw.Write(IndexColumns())
@@ -54,8 +55,8 @@ func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 			warnings = append([]string{"skipped: " + e.Skipped}, warnings...)
 		}
 		cw.Write([]string{e.Section, e.Source, e.Output, strconv.Itoa(e.Rows),
-			FormatFloat(e.StageMin), FormatFloat(e.StageMax),
-			FormatFloat(e.BankfullStage), FormatFloat(e.BankfullDischarge),
+			FormatLength(e.StageMin), FormatLength(e.StageMax),
+			FormatLength(e.BankfullStage), FormatFloat(e.BankfullDischarge),
 			strings.Join(warnings, WarningSeparator), e.Err})
 	}
 	cw.Flush()
@@ -64,7 +65,8 @@ func WriteIndexCSV(w io.Writer, entries []IndexEntry) error {
 
 // LongRatingWriter writes the rating tables of many sections as one long
 // CSV table: a "section" column, then RatingColumns(), ExtraRatingColumns()
-// and the row flags ("flags", as in WriteRatingCSV). Per-subsection
+// and the row flags ("flags", as in WriteRatingCSV), each number as
+// WriteRatingCSV writes it. Per-subsection
 // discharges are left out, as sections differ in their subsections.
 type LongRatingWriter struct {
 	cw  *csv.Writer
@@ -86,7 +88,11 @@ func (l *LongRatingWriter) Write(section string, t rating.Table) error {
 		l.rec[0] = section
 		vals := append(mainValues(r), extraValues(r)...)
 		for i, v := range vals {
-			l.rec[i+1] = FormatFloat(v)
+			if lengthColumn[i] {
+				l.rec[i+1] = FormatLength(v)
+			} else {
+				l.rec[i+1] = FormatFloat(v)
+			}
 		}
 		l.rec[len(vals)+1] = strings.Join(r.Flags, " ")
 		if err := l.cw.Write(l.rec); err != nil {

@@ -18,13 +18,18 @@ func TestWriteIndexCSV(t *testing.T) {
 			BankfullStage: 2, BankfullDischarge: 12.5, Warnings: []string{"w1", "w, 2"}},
 		{Section: "XS-2", Source: "b.csv", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan,
 			Err: "b.csv:3:2: elevation \"x\": not a number"},
+		// Stages of a high site are written to the 4 decimals of its rating
+		// table, not cut to six figures (1234.57); a discharge keeps six.
+		{Section: "XS-3", Source: "c.csv", Output: "XS-3.csv", Rows: 2, StageMin: 1234.5678, StageMax: 1236.1234,
+			BankfullStage: 1235.5001, BankfullDischarge: 123.45678},
 	})
 	if err != nil {
 		t.Fatal(err)
 	}
 	want := "section,source,output,rows,stage_min,stage_max,bankfull_stage,bankfull_discharge,warnings,error\n" +
 		"XS-1,a.csv,XS-1.csv,3,1,2.5,2,12.5,\"w1 | w, 2\",\n" +
-		"XS-2,b.csv,,0,,,,,,\"b.csv:3:2: elevation \"\"x\"\": not a number\"\n"
+		"XS-2,b.csv,,0,,,,,,\"b.csv:3:2: elevation \"\"x\"\": not a number\"\n" +
+		"XS-3,c.csv,XS-3.csv,2,1234.5678,1236.1234,1235.5001,123.457,,\n"
 	if b.String() != want {
 		t.Errorf("got\n%s\nwant\n%s", b.String(), want)
 	}
@@ -168,5 +173,43 @@ func TestWriteBatchFailures(t *testing.T) {
 	lines := strings.Split(strings.TrimSuffix(b.String(), "\n"), "\n")
 	if len(lines) != MaxListed+3 || lines[0] != "failed: s0: x.csv:5:2: not a number" || strings.Contains(b.String(), "ok") {
 		t.Errorf("listed:\n%s", b.String())
+	}
+}
+
+// The long table writes stages and depths as the rating CSV does, to 4
+// decimals: a stage of 1234.5678 m on a high site reads 1234.5678, not
+// 1234.57 (six figures), which two stages 0.001 apart would share.
+func TestLongRatingWriterStages(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{
+		Points:    []subdivide.Point{{Station: 0, Elevation: 1236}, {Station: 2, Elevation: 1234}, {Station: 4, Elevation: 1236}},
+		NByRegion: subdivide.PerRegion{Channel: 0.03},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := rating.Compute(p, []float64{1234.5678, 1234.5688}, rating.Options{Slope: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var long, one strings.Builder
+	l := NewLongRatingWriter(&long)
+	if err := l.Write("x", tab); err != nil {
+		t.Fatal(err)
+	}
+	if err := l.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	if err := WriteRatingCSV(&one, rating.RatingReport{Table: tab}); err != nil {
+		t.Fatal(err)
+	}
+	lines, want := strings.Split(long.String(), "\n"), strings.Split(one.String(), "\n")
+	for i, w := range []string{"x,1234.5678,0.5678,", "x,1234.5688,0.5688,"} {
+		if !strings.HasPrefix(lines[i+1], w) {
+			t.Errorf("row %d %q, want it to begin %q", i+1, lines[i+1], w)
+		}
+		// The same figures as the section's own table, column for column.
+		if got, w := strings.Split(lines[i+1], ",")[1:4], strings.Split(want[i+1], ",")[:3]; fmt.Sprint(got) != fmt.Sprint(w) {
+			t.Errorf("row %d: %q, the rating CSV %q", i+1, got, w)
+		}
 	}
 }

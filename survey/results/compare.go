@@ -194,7 +194,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
 		return err
 	}
-	s, err := b.Table(SheetComparison, []workbook.Column{
+	s, err := reportTable(b, SheetComparison, []workbook.Column{
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "discharge_a", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "discharge_b", Unit: Q, Format: workbook.FormatSig3},
@@ -351,7 +351,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 	for i, n := range SectionComparisonColumns() {
 		cols = append(cols, workbook.Column{Name: n, Unit: units[i], Format: formats[i]})
 	}
-	s, err := b.Table(SheetComparison, cols)
+	s, err := reportTable(b, SheetComparison, cols)
 	if err != nil {
 		return err
 	}
@@ -378,7 +378,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 // WriteComparisonSummary says that a comparison was written to path.
 func WriteComparisonSummary(w io.Writer, what string, rows int, warnings []string, path string) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "wrote %s: %s, %d stages\n", path, what, rows)
+	fmt.Fprintf(bw, "wrote %s: %s, %s\n", path, what, counted(rows, "stage", "stages"))
 	return endSummary(bw, warnings)
 }
 

@@ -7,5 +7,8 @@
 // documented ones come first, in order, and later versions add after them.
 // JSON is encoded from structs so keys keep that order; undefined values
 // are null in JSON and empty cells in CSV. Stages and lengths are written
-// to LengthDecimals decimals, other values to six significant digits.
+// to LengthDecimals decimals, other values to six significant digits; a
+// results workbook stores its numbers so too (its number formats choose
+// how many of those figures show), so its cells hold the CSV's figures
+// and no float noise (0.6, not 0.600000000000001).
 package results

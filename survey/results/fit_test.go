@@ -16,10 +16,6 @@ import (
 	"wetline/survey/results"
 )
 
-// halfWidthTol is the relative tolerance of a band's half-width read back
-// from a workbook cell written with 15 significant digits.
-const halfWidthTol = 1e-9
-
 // fitReports returns a least-squares and a Bayesian report on gaugings of
 // Q = 8·(h − 0.3)^2 (invented) with seeded noise, one gauging excluded by
 // its own text and the table carried to twice the highest gauging's stage.
@@ -231,7 +227,7 @@ func TestWriteFitWorkbookBandsPosterior(t *testing.T) {
 			continue
 		}
 		got, err := strconv.ParseFloat(rows[i+1][ct], 64)
-		if want := 50 * (r.TotalUpper - r.TotalLower) / r.Discharge; err != nil || math.Abs(got-want) > halfWidthTol*want {
+		if want := 50 * (r.TotalUpper - r.TotalLower) / r.Discharge; err != nil || got != reported(want, false) {
 			t.Errorf("row %d: total half-width %q, want %g", i+1, rows[i+1][ct], want)
 		}
 	}

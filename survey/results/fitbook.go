@@ -238,7 +238,8 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("R̂ limit (the chains agree at or below it)", num("0.00", gauged.RHatLimit), "")
 		add("least effective sample size ("+p.ESSParam+")", num("0", p.ESSMin), "")
 		add("acceptance rate", num("0.000", p.Acceptance), "")
-		add("sampling", fmt.Sprintf("%d chains of %d draws after %d pilot iterations, seed %d, %d local mode(s)", p.Chains, p.Draws, p.Pilot, p.Seed, p.Modes), "")
+		add("sampling", fmt.Sprintf("%s of %s after %s, seed %d, %d local mode(s)", counted(p.Chains, "chain", "chains"), counted(p.Draws, "draw", "draws"),
+			counted(p.Pilot, "pilot iteration", "pilot iterations"), p.Seed, p.Modes), "")
 		add("likelihood", p.Likelihood, "")
 	}
 	if j := f.Johnson; j.OK {
@@ -288,7 +289,7 @@ func writeGaugingsSheet(b *workbook.Book, r *gauged.Report) error {
 		cols = append(cols, workbook.Column{Name: "factor_on_n", Format: "0.000"}, workbook.Column{Name: "n", Format: "0.0000"})
 	}
 	cols = append(cols, workbook.Column{Name: "source", Width: textWidth, Wrap: true})
-	s, err := b.Table(SheetGaugings, cols)
+	s, err := reportTable(b, SheetGaugings, cols)
 	if err != nil {
 		return err
 	}
@@ -373,7 +374,7 @@ func writeBandsSheet(b *workbook.Book, u rating.Units, t *gauged.ControlTable) e
 // writeMarkedRows writes one row per table row, extrapolated rows in the
 // marked style.
 func writeMarkedRows(b *workbook.Book, name string, cols []workbook.Column, rows []gauged.ControlRow, values func(gauged.ControlRow) []any) error {
-	s, err := b.Table(name, cols)
+	s, err := reportTable(b, name, cols)
 	if err != nil {
 		return err
 	}
@@ -409,7 +410,7 @@ func writePosteriorSheet(b *workbook.Book, p *gauged.Posterior) error {
 	}
 	cols[0].Width, cols[len(cols)-1].Width = 36, 10
 	cols[0].Format, cols[len(cols)-1].Format = workbook.FormatText, workbook.FormatText
-	s, err := b.Table(SheetPosterior, cols)
+	s, err := reportTable(b, SheetPosterior, cols)
 	if err != nil {
 		return err
 	}
@@ -425,7 +426,7 @@ func writePosteriorSheet(b *workbook.Book, p *gauged.Posterior) error {
 func writeNByStageSheet(b *workbook.Book, r *gauged.Report) error {
 	u := r.Units
 	c := r.Calibration
-	s, err := b.Table(SheetNByStage, []workbook.Column{
+	s, err := reportTable(b, SheetNByStage, []workbook.Column{
 		{Name: "stage", Unit: u.Length(), Format: "0.000"},
 		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
 		{Name: "rated", Unit: u.Discharge(), Format: workbook.FormatSig3},

@@ -109,7 +109,7 @@ func TestFitLabels(t *testing.T) {
 			}
 			if f := rep.Fit; f.StandardErrorDF > 0 {
 				v, unit, _ := strings.Cut(items["weighted standard error of estimate"], "|")
-				if got, err := strconv.ParseFloat(v, 64); err != nil || unit != "%" || math.Abs(got-f.StandardErrorPercent) > 1e-9 {
+				if got, err := strconv.ParseFloat(v, 64); err != nil || unit != "%" || got != reported(f.StandardErrorPercent, false) {
 					t.Errorf("workbook standard error %q %q, want %g %%", v, unit, f.StandardErrorPercent)
 				}
 			}

@@ -2,10 +2,14 @@ package results_test
 
 import (
 	"io"
+	"math"
 	"os"
+	"strconv"
 	"testing"
 
 	"github.com/xuri/excelize/v2"
+
+	"wetline/survey/results"
 )
 
 // openBook opens a workbook written by a test, reading cells raw, and
@@ -32,4 +36,19 @@ func writeFile(path string, write func(io.Writer) error) error {
 		return err
 	}
 	return f.Close()
+}
+
+// reported is v as the reports write it, read back: a length to
+// results.LengthDecimals decimals, any other value to six significant
+// digits. A workbook cell holds exactly this number.
+func reported(v float64, length bool) float64 {
+	s := results.FormatFloat(v)
+	if length {
+		s = results.FormatLength(v)
+	}
+	r, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return math.NaN()
+	}
+	return r
 }

@@ -33,8 +33,8 @@ var ErrWorkbookRows = errors.New("too many rows for a workbook sheet")
 func CheckRatingWorkbook(stages, subs int) error {
 	rows := stages * max(subs, 1)
 	if rows+1 > workbook.MaxRows {
-		return fmt.Errorf("%w: %d stages × %d subsections is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
-			ErrWorkbookRows, stages, subs, rows, workbook.MaxRows-1)
+		return fmt.Errorf("%w: %d stages × %s is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
+			ErrWorkbookRows, stages, counted(subs, "subsection", "subsections"), rows, workbook.MaxRows-1)
 	}
 	return nil
 }
@@ -82,7 +82,7 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 		return err
 	}
 	if g := rep.Ground; len(g.Section.Points) > 0 {
-		sv := survey.Survey{Section: g.Section, Labels: g.Labels, Notes: g.Notes}
+		sv := survey.Survey{Section: reportedStations(g.Section), Labels: g.Labels, Notes: g.Notes}
 		if err := survey.WriteSurveySheet(b, SheetSurvey, sv, rep.Table.Units); err != nil {
 			return err
 		}
@@ -93,6 +93,20 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 		}
 	}
 	return b.Write(w)
+}
+
+// reportedStations returns a copy of sec whose stations and bank
+// stations are written as lengths (reportedNumber): stations projected
+// from coordinates are computed, and the survey sheet holds them as the
+// projected survey's CSV writes them.
+func reportedStations(sec subdivide.Section) subdivide.Section {
+	pts := make([]subdivide.Point, len(sec.Points))
+	for i, p := range sec.Points {
+		pts[i] = subdivide.Point{Station: reportedNumber(p.Station, true), Elevation: p.Elevation}
+	}
+	sec.Points = pts
+	sec.LeftBank, sec.RightBank = reportedNumber(sec.LeftBank, true), reportedNumber(sec.RightBank, true)
+	return sec
 }
 
 // RatingSheetColumns returns the columns of a rating sheet for t: the
@@ -128,11 +142,15 @@ func RatingSheetColumns(t rating.Table) []workbook.Column {
 // column: the longest flag; more flags wrap below.
 const flagsWidth = 17
 
-// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns).
+// WriteRatingSheet writes t as a table sheet (see RatingSheetColumns),
+// each number as WriteRatingCSV writes it.
 func WriteRatingSheet(b *workbook.Book, name string, t rating.Table) error {
-	s, err := b.Table(name, RatingSheetColumns(t))
+	s, err := reportTable(b, name, RatingSheetColumns(t))
 	if err != nil {
 		return err
+	}
+	for i := range s.length { // the lengths of the CSV: stage and depth
+		s.length[i] = lengthColumn[i]
 	}
 	ws, err := b.WrapStyle()
 	if err != nil {
@@ -196,7 +214,7 @@ func WriteLookupCells(b *workbook.Book, name string, u rating.Units, cells []Loo
 		q[k] = c
 		lo, hi = min(lo, k), max(hi, k)
 	}
-	s, err := b.TitledTable(name, LookupTitle(u), cols)
+	s, err := reportTitledTable(b, name, LookupTitle(u), cols)
 	if err != nil {
 		return err
 	}
@@ -293,7 +311,7 @@ func subsectionColumns(first workbook.Column, u rating.Units) []workbook.Column 
 func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 	u := t.Units
 	L := u.Length()
-	s, err := b.Table(name, subsectionColumns(workbook.Column{Name: "stage", Unit: L, Format: "0.000"}, u))
+	s, err := reportTable(b, name, subsectionColumns(workbook.Column{Name: "stage", Unit: L, Format: "0.000"}, u))
 	if err != nil {
 		return err
 	}
@@ -328,7 +346,8 @@ type SummaryItem struct {
 // WriteSummarySheet writes a summary sheet (SummaryColumns()): the items in
 // order, then one row per warning ("warnings: none" when there are none),
 // then the caution (rating.Caution), which every report carries. Items whose
-// value is "" or nil are left out.
+// value is "" or nil are left out. A number is stored as the reports write
+// it (reportedCell): a length when the item's unit is one.
 func WriteSummarySheet(b *workbook.Book, name string, items []SummaryItem, warnings []string) error {
 	s, err := b.Table(name, SummaryColumns())
 	if err != nil {
@@ -346,7 +365,7 @@ func WriteSummarySheet(b *workbook.Book, name string, items []SummaryItem, warni
 		if it.Value == nil || it.Value == "" {
 			return nil
 		}
-		v := it.Value
+		v := reportedCell(it.Value, isLengthUnit(it.Unit))
 		if str, ok := v.(string); ok {
 			v = workbook.Styled{Style: ws, Value: str}
 		}

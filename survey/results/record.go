@@ -460,7 +460,7 @@ func WriteRecordText(w io.Writer, res *record.Result, tables RecordTables) error
 func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 	u := res.UnitSystem
 	n := len(res.Units)
-	fmt.Fprintf(bw, "Discharge record from %s: %d readings", res.Name, n)
+	fmt.Fprintf(bw, "Discharge record from %s: %s", res.Name, counted(n, "reading", "readings"))
 	if n > 0 {
 		fmt.Fprintf(bw, " from %s to %s", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout),
 			time.Unix(res.Units[n-1].Time, 0).In(res.Zone).Format(RecordTimeLayout))
@@ -535,8 +535,10 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 			out++
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %d gaugings lie outside their quality bands from the record\n", out, len(c.Gaugings))
-	fmt.Fprintf(bw, "  %d of %d gauge heights differ from the recorded stage by more than %s\n", beyond, len(c.Gaugings), tol)
+	fmt.Fprintf(bw, "  %d of %s %s outside %s from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"),
+		agree(out, "lies", "lie"), agree(out, "its quality band", "their quality bands"))
+	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, counted(len(c.Gaugings), "gauge height", "gauge heights"),
+		agree(beyond, "differs", "differ"), tol)
 }
 
 // writeDailyText writes the daily values as aligned columns.
@@ -624,8 +626,8 @@ func appendPadded(b, cell []byte, width int, right bool) []byte {
 // warnings, the caution and the provisional note.
 func WriteRecordSummary(w io.Writer, res *record.Result, path string) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "wrote %s: %d readings, %d days, %d rating period(s), %d shift diagram(s)\n",
-		path, len(res.Units), len(res.Daily), len(res.Periods), len(res.Shifts))
+	fmt.Fprintf(bw, "wrote %s: %s, %s, %d rating period(s), %d shift diagram(s)\n",
+		path, counted(len(res.Units), "reading", "readings"), counted(len(res.Daily), "day", "days"), len(res.Periods), len(res.Shifts))
 	peak := record.DailyValue{Max: math.NaN()}
 	for _, d := range res.Daily {
 		if !math.IsNaN(d.Max) && (math.IsNaN(peak.Max) || d.Max > peak.Max) {

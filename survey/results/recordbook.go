@@ -121,7 +121,7 @@ func historyItems(ps []periodInfo, ss []shiftInfo, z *time.Location, u rating.Un
 	for i, p := range ps {
 		v := fmt.Sprintf("from %s to %s: %s", fromText(p.from, z), toText(p.to, z), ratingWords(p.rating, u))
 		if p.readings >= 0 {
-			v += fmt.Sprintf("; %d readings rated", p.readings)
+			v += "; " + counted(p.readings, "reading", "readings") + " rated"
 		}
 		items = append(items, SummaryItem{fmt.Sprintf("rating period %d", i+1), v, ""})
 	}
@@ -188,7 +188,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 // writeDailySheet writes the daily values.
 func writeDailySheet(b *workbook.Book, res *record.Result) error {
 	Q := res.UnitSystem.Discharge()
-	s, err := b.Table(SheetDaily, []workbook.Column{
+	s, err := reportTable(b, SheetDaily, []workbook.Column{
 		{Name: "date", Format: "yyyy-mm-dd", Width: 12},
 		{Name: "mean", Unit: Q, Format: workbook.FormatSig3},
 		{Name: "min", Unit: Q, Format: workbook.FormatSig3},
@@ -222,7 +222,7 @@ func writeDailySheet(b *workbook.Book, res *record.Result) error {
 func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 	u := res.UnitSystem
 	L, Q := u.Length(), u.Discharge()
-	s, err := b.Table(SheetUnit, []workbook.Column{
+	s, err := reportTable(b, SheetUnit, []workbook.Column{
 		{Name: "time", Format: workbook.FormatDateTime, Width: 17},
 		{Name: "stage", Unit: L, Format: "0.000"},
 		{Name: "shift", Unit: L, Format: "0.000"},
@@ -257,7 +257,7 @@ func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 // writeRatingsSheet writes every period's table, the period's start on
 // its first row.
 func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u rating.Units) error {
-	s, err := b.Table(SheetRatings, []workbook.Column{
+	s, err := reportTable(b, SheetRatings, []workbook.Column{
 		{Name: "period", Format: "0"},
 		{Name: "valid_from", Format: workbook.FormatText, Width: 26},
 		{Name: "rating", Width: 30},
@@ -302,7 +302,7 @@ func writeShiftsSheet(b *workbook.Book, name string, ss []shiftInfo, z *time.Loc
 		{Name: "rating_period", Format: "0"},
 		{Name: "source", Width: 24},
 	}
-	s, err := b.Table(name, cols)
+	s, err := reportTable(b, name, cols)
 	if err != nil {
 		return err
 	}
@@ -355,7 +355,7 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 			workbook.Column{Name: "stage_difference", Unit: L, Format: "0.000"},
 			workbook.Column{Name: "beyond_stage_tolerance"})
 	}
-	s, err := b.Table(SheetGaugings, cols)
+	s, err := reportTable(b, SheetGaugings, cols)
 	if err != nil {
 		return err
 	}

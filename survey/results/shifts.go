@@ -227,8 +227,8 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	bw := bufio.NewWriter(w)
 	z := zoneOf(c.UTCOffset)
 	u := c.Units
-	fmt.Fprintf(bw, "Gaugings against the ratings in force: %d measurements; %s units (gauge heights and shifts in %s, discharge in %s); times in %s\n",
-		len(c.Gaugings), u, u.Length(), u.Discharge(), zoneName(z))
+	fmt.Fprintf(bw, "Gaugings against the ratings in force: %s; %s units (gauge heights and shifts in %s, discharge in %s); times in %s\n",
+		counted(len(c.Gaugings), "measurement", "measurements"), u, u.Length(), u.Discharge(), zoneName(z))
 	bw.WriteString(siteLine(c.Provenance))
 	if len(c.Provenance.Inputs) > 0 {
 		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(c.Provenance.Inputs), programName(c.Provenance))
@@ -402,7 +402,7 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 			proposed++
 		}
 	}
-	fmt.Fprintf(bw, "wrote %s: %d gaugings in %d visits", path, len(c.Gaugings), len(c.Visits))
+	fmt.Fprintf(bw, "wrote %s: %s in %s", path, counted(len(c.Gaugings), "gauging", "gaugings"), counted(len(c.Visits), "visit", "visits"))
 	if n := excludedCount(c); n > 0 {
 		fmt.Fprintf(bw, " (%d excluded)", n)
 	}
@@ -410,6 +410,6 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 	if len(c.History.Shifts) > 0 {
 		fmt.Fprintf(bw, ", %d with the shifts applied", outShifted)
 	}
-	fmt.Fprintf(bw, "; %d visit(s) propose a shift diagram\n", proposed)
+	fmt.Fprintf(bw, "; %s %s a shift diagram\n", counted(proposed, "visit", "visits"), agree(proposed, "proposes", "propose"))
 	return endSummary(bw, c.Warnings)
 }

@@ -222,12 +222,12 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	case un.Failed >= un.Draws:
 		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
 	default:
-		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %d draws)",
-			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), un.Draws-un.Failed)
+		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %s)",
+			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), counted(un.Draws-un.Failed, "draw", "draws"))
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
-		t.line("  method        slope-area, the %d subreaches solved together (Dalrymple & Benson 1967, USGS TWRI 3-A2)", len(r.Subreaches))
+		t.line("  method        slope-area, %s (Dalrymple & Benson 1967, USGS TWRI 3-A2)", saSubreachesSolved(len(r.Subreaches)))
 		t.line("  subreaches    %s", saSubreachWords(r))
 		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, lengthDecimals(saDistances(r)...)), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
 	default:
@@ -363,7 +363,7 @@ func saTextChecks(t *textReport, r reach.SlopeArea) {
 			pass++
 		}
 	}
-	t.line("Quality checks (%d of %d pass)", pass, len(r.Checks))
+	t.line("Quality checks (%d of %d %s)", pass, len(r.Checks), agree(pass, "passes", "pass"))
 	var rows [][]string
 	for _, c := range r.Checks {
 		rows = append(rows, []string{c.Status(), c.Name, rating.PlainFigures(c.Value, 4) + " " + c.Relation + " " + rating.PlainFigures(c.Limit, 4), c.Source})

@@ -57,6 +57,16 @@ func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	return b.Write(w)
 }
 
+// saSubreachesSolved words how the subreaches of a slope-area estimate
+// were solved: "the 2 subreaches solved together", or "its one subreach"
+// for a reach of two sections.
+func saSubreachesSolved(n int) string {
+	if n == 1 {
+		return "its one subreach"
+	}
+	return fmt.Sprintf("the %d subreaches solved together", n)
+}
+
 // saReachName names the reach table read ("reach" when built in code).
 func saReachName(rep reach.Report) string {
 	if rep.Name == "" {
@@ -83,13 +93,13 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("5th percentile", num(workbook.FormatSig3, un.P05), Q)
 		add("median", num(workbook.FormatSig3, un.P50), Q)
 		add("95th percentile", num(workbook.FormatSig3, un.P95), Q)
-		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %d draws (%d without a solution), seed %d: see the uncertainty sheet", un.Draws, un.Failed, un.Seed), "")
+		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %s (%d without a solution), seed %d: see the uncertainty sheet", counted(un.Draws, "draw", "draws"), un.Failed, un.Seed), "")
 	} else {
 		add("band", "no Monte Carlo analysis was run", "")
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
-		add("method", fmt.Sprintf("slope-area, the %d subreaches solved together (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", len(r.Subreaches)), "")
+		add("method", fmt.Sprintf("slope-area, %s (Dalrymple & Benson, 1967, USGS TWRI 3-A2)", saSubreachesSolved(len(r.Subreaches))), "")
 		add("reach length", num(workbook.DecimalsFormat(lengthDecimals(saDistances(r)...)), r.Length), L)
 		add("fall", num("0.000", r.Fall), L)
 		add("least subreach discharge", num(workbook.FormatSig3, r.SubreachMin), Q)
@@ -120,7 +130,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 
 func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 	L := rep.Result.Units.Length()
-	s, err := b.Table(SheetReachInputs, []workbook.Column{
+	s, err := reportTable(b, SheetReachInputs, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "survey", Width: 24},
 		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
@@ -154,7 +164,7 @@ func writeSAInputs(b *workbook.Book, rep reach.Report) error {
 func writeSASections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSections, []workbook.Column{
+	s, err := reportTable(b, SheetSections, []workbook.Column{
 		{Name: "section", Width: 12},
 		{Name: "distance", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
 		{Name: "water_surface", Unit: L, Format: "0.000"},
@@ -184,7 +194,7 @@ func writeSASections(b *workbook.Book, rep reach.Report) error {
 
 func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
-	s, err := b.Table(SheetSubsections, subsectionColumns(workbook.Column{Name: "section", Width: 12}, u))
+	s, err := reportTable(b, SheetSubsections, subsectionColumns(workbook.Column{Name: "section", Width: 12}, u))
 	if err != nil {
 		return err
 	}
@@ -202,7 +212,7 @@ func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 func writeSASubreaches(b *workbook.Book, rep reach.Report) error {
 	u := rep.Result.Units
 	L := u.Length()
-	s, err := b.Table(SheetSubreaches, []workbook.Column{
+	s, err := reportTable(b, SheetSubreaches, []workbook.Column{
 		{Name: "from", Width: 12},
 		{Name: "to", Width: 12},
 		{Name: "length", Unit: L, Format: workbook.DecimalsFormat(lengthDecimals(saDistances(rep.Result)...))},
@@ -236,7 +246,7 @@ func writeSAChecks(b *workbook.Book, rep reach.Report) error {
 		{Name: "status", Width: 10},
 		{Name: "source", Width: 60},
 	}
-	s, err := b.Table(SheetChecks, cols)
+	s, err := reportTable(b, SheetChecks, cols)
 	if err != nil {
 		return err
 	}
@@ -268,7 +278,7 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 	r := rep.Result
 	u := r.Units
 	L, Q := u.Length(), u.Discharge()
-	s, err := b.Table(SheetUncertainty, []workbook.Column{
+	s, err := reportTable(b, SheetUncertainty, []workbook.Column{
 		{Name: "quantity", Width: 40},
 		{Name: "section", Width: 12},
 		{Name: "value", Format: workbook.FormatSig3, Width: 14},

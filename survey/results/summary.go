@@ -62,9 +62,9 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	bw := bufio.NewWriter(w)
 	if f := r.Fit; f != nil && f.N != len(r.Gaugings) {
-		fmt.Fprintf(bw, "wrote %s: %d gaugings fitted of %d read", path, f.N, len(r.Gaugings))
+		fmt.Fprintf(bw, "wrote %s: %s fitted of %d read", path, counted(f.N, "gauging", "gaugings"), len(r.Gaugings))
 	} else {
-		fmt.Fprintf(bw, "wrote %s: %d gaugings", path, len(r.Gaugings))
+		fmt.Fprintf(bw, "wrote %s: %s", path, counted(len(r.Gaugings), "gauging", "gaugings"))
 	}
 	switch {
 	case r.Hydraulic != nil:
@@ -76,9 +76,10 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	}
 	fmt.Fprintln(bw)
 	if f := r.Fit; f != nil {
-		se := fmt.Sprintf("weighted standard error %s %% (%d degrees of freedom)", fixed(f.StandardErrorPercent, 1), f.StandardErrorDF)
+		se := fmt.Sprintf("weighted standard error %s %% (%s)", fixed(f.StandardErrorPercent, 1), counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
 		if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
-			se = fmt.Sprintf("weighted standard error not defined (%d gaugings for %d parameters of the rating)", f.N, f.N-f.StandardErrorDF)
+			se = fmt.Sprintf("weighted standard error not defined (%s for %s of the rating)", counted(f.N, "gauging", "gaugings"),
+				counted(f.N-f.StandardErrorDF, "parameter", "parameters"))
 		}
 		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), %s\n",
 			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, se)
@@ -119,7 +120,7 @@ func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 			warn++
 		}
 	}
-	fmt.Fprintf(bw, ", %d of %d checks warn\n", warn, len(r.Checks))
+	fmt.Fprintf(bw, ", %d of %s %s\n", warn, counted(len(r.Checks), "check", "checks"), agree(warn, "warns", "warn"))
 	return endSummary(bw, rep.Warnings)
 }
 
@@ -165,7 +166,7 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings
 			skipped++
 		}
 	}
-	fmt.Fprintf(bw, "rated %d of %d sections into %s", len(entries)-failed-skipped, len(entries), where)
+	fmt.Fprintf(bw, "rated %d of %s into %s", len(entries)-failed-skipped, counted(len(entries), "section", "sections"), where)
 	if skipped > 0 {
 		fmt.Fprintf(bw, "; %d skipped", skipped)
 	}
