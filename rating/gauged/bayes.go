@@ -192,7 +192,7 @@ type bayesProblem struct {
 // ControlTable come from the draws.
 //
 // Errors: those of FitControls's options and gaugings, ErrBayesOptions,
-// ErrControlOptions for given breakpoints that leave a control on weak
+// ErrThinControl for given breakpoints that leave a control on weak
 // priors fewer than MinPerSegment gaugings (see givenBreaksHold),
 // ErrNoStart when no start is admissible.
 //
@@ -298,38 +298,19 @@ func lsqGuess(gs []Gauging, opt ControlOptions) (starts [][]float64, full []floa
 // gauged stages leaves a weakly held control empty and is refused. A
 // control with priors from the survey or given may hold fewer (it rests on
 // its prior, and thinControls warns of it). The error wraps
-// ErrControlOptions and names the control, its stages and the gauged
-// range.
+// ErrThinControl and names each such control, its stages, the gaugings it
+// holds, its priors and the gauged range.
 func (b *bayesProblem) givenBreaksHold() error {
 	breaks := b.opt.Breaks
 	if breaks == nil {
 		return nil
 	}
-	d, u := b.d, b.opt.Units.Length()
-	for j := range b.m.k() {
-		lo, hi := math.Inf(-1), math.Inf(1)
-		if j > 0 {
-			lo = breaks[j-1]
-		}
-		if j < len(breaks) {
-			hi = breaks[j]
-		}
-		c := d.countIn(lo, hi)
-		if c >= MinPerSegment || b.informative[j] {
-			continue
-		}
-		where := fmt.Sprintf("from %s %s up", gh(lo), u)
-		switch {
-		case j == 0:
-			where = fmt.Sprintf("below %s %s", gh(hi), u)
-		case j+1 < b.m.k():
-			where = fmt.Sprintf("from %s to %s %s", gh(lo), gh(hi), u)
-		}
-		return fmt.Errorf("%w: the breakpoints %v leave control %d (%s) with %d of the gaugings used (%s to %s %s), fewer than %d, "+
-			"with %s: place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest",
-			ErrControlOptions, breaks, j+1, where, c, gh(d.lo), gh(d.hi), u, MinPerSegment, b.sources[j], MinPerSegment)
+	thin := thinControls(b.d, breaks, b.m.k(), func(j int) bool { return b.informative[j] })
+	if thin == nil {
+		return nil
 	}
-	return nil
+	return thinControlError(b.d, breaks, thin, b.opt.Units, func(j int) string { return "with " + b.sources[j] },
+		fmt.Sprintf("place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest", MinPerSegment))
 }
 
 // thinControls warns of each control of rating r (at the posterior mode)

@@ -231,8 +231,11 @@ type lsqProblem struct {
 //
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
 // are not fitted but get their departures. Errors: ErrControlOptions,
-// ErrGauging, ErrBelowZero (a gauging at or below a fixed offset),
-// ErrFewGaugings, ErrNoStart (naming the control that cannot start).
+// ErrThinControl (given breakpoints leaving a control fewer than
+// MinPerSegment gaugings: it names each such control, its stages and the
+// gaugings it holds), ErrGauging, ErrBelowZero (a gauging at or below a
+// fixed offset), ErrFewGaugings, ErrNoStart (naming the control that
+// cannot start).
 //
 // References:
 //
@@ -312,9 +315,11 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 		return nil, nil, nil, fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
 	}
 	p := &lsqProblem{m: m, d: d, opt: opt, fitBreak: opt.Breaks == nil && k > 1}
-	if opt.Breaks != nil && !p.segmentsHold(opt.Breaks) {
-		return nil, nil, nil, fmt.Errorf("%w: the breakpoints %v leave a control with fewer than %d of the gaugings (%g to %g)",
-			ErrControlOptions, opt.Breaks, MinPerSegment, d.lo, d.hi)
+	if opt.Breaks != nil {
+		if thin := thinControls(d, opt.Breaks, k, nil); thin != nil {
+			return nil, nil, nil, thinControlError(d, opt.Breaks, thin, opt.Units, nil,
+				fmt.Sprintf("least squares needs %d on every control: place the breakpoints so that each control holds %d, or fit fewer controls", MinPerSegment, MinPerSegment))
+		}
 	}
 	p.scale = scales(m, d)
 	return p, reasons, warn, nil
