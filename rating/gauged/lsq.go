@@ -914,6 +914,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	}
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
+	f.Warnings = append(f.Warnings, f.stepWarnings()...)
 }
 
 // zeroFlowConflicts returns a warning for each gauging of gs (those of the
