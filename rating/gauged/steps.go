@@ -1,7 +1,6 @@
 package gauged
 
 import (
-	"fmt"
 	"math"
 	"sort"
 
@@ -83,16 +82,16 @@ func (f *ControlFit) stepWarnings() []string {
 	L, Q := f.Units.Length(), f.Units.Discharge()
 	for _, s := range f.BreakSteps() {
 		c := f.Rating.Controls[s.Control-1]
-		how := fmt.Sprintf("control %d replaces control %d with exponent %s and its offset %s %s below the breakpoint",
+		how := sayf("control %d replaces control %d with exponent %s and its offset %s %s below the breakpoint",
 			s.Control, s.Control-1, rating.PlainFigures(c.C, 3), rating.PlainFigures(s.Stage-c.B, 2), L)
 		if s.Stage-c.B < StepProbe {
-			how = fmt.Sprintf("control %d replaces control %d with exponent %s and its offset within %s %s below the breakpoint",
+			how = sayf("control %d replaces control %d with exponent %s and its offset within %s %s below the breakpoint",
 				s.Control, s.Control-1, rating.PlainFigures(c.C, 3), gh(StepProbe), L)
 		}
 		if c.Joint == Add {
-			how = fmt.Sprintf("control %d adds %s·(h − %s)^%s to the controls below", s.Control, rating.PlainFigures(c.A, 4), gh(s.Stage), rating.PlainFigures(c.C, 3))
+			how = sayf("control %d adds %s·(h − %s)^%s to the controls below", s.Control, rating.PlainFigures(c.A, 4), gh(s.Stage), rating.PlainFigures(c.C, 3))
 		}
-		out = append(out, fmt.Sprintf("the rating steps at the breakpoint %s %s: from %s %s at it to %s %s %s %s above it (×%s), "+
+		out = append(out, sayf("the rating steps at the breakpoint %s %s: from %s %s at it to %s %s %s %s above it (×%s), "+
 			"more than the %s %% uncertainty (95 %%) of the gaugings either side: %s, so the rating is continuous there in form only; "+
 			"a rating that steps is not one to use: move or drop the breakpoint, or fit fewer controls",
 			gh(s.Stage), L, rating.PlainFigures(s.Below, 4), Q, rating.PlainFigures(s.Above, 4), Q, gh(StepProbe), L,

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 	"strings"
@@ -55,22 +54,22 @@ func thinControlError(d *data, breaks []float64, thin []int, u rating.Units, why
 	parts := make([]string, len(thin))
 	for i, j := range thin {
 		lo, hi := controlSpan(breaks, j)
-		where := fmt.Sprintf("from %s %s up", gh(lo), L)
+		where := sayf("from %s %s up", gh(lo), L)
 		switch {
 		case j == 0:
-			where = fmt.Sprintf("below %s %s", gh(hi), L)
+			where = sayf("below %s %s", gh(hi), L)
 		case j < len(breaks):
-			where = fmt.Sprintf("from %s to %s %s", gh(lo), gh(hi), L)
+			where = sayf("from %s to %s %s", gh(lo), gh(hi), L)
 		}
 		c := d.countIn(lo, hi)
 		held := ""
 		switch first := d.firstIn(lo); {
 		case c == 1:
-			held = fmt.Sprintf(", at %s %s", gh(d.h[first]), L)
+			held = sayf(", at %s %s", gh(d.h[first]), L)
 		case c > 1:
-			held = fmt.Sprintf(", from %s to %s %s", gh(d.h[first]), gh(d.h[first+c-1]), L)
+			held = sayf(", from %s to %s %s", gh(d.h[first]), gh(d.h[first+c-1]), L)
 		}
-		parts[i] = fmt.Sprintf("control %d (%s) holds %d of the %d gaugings used%s", j+1, where, c, d.n(), held)
+		parts[i] = sayf("control %d (%s) holds %d of the %d gaugings used%s", j+1, where, c, d.n(), held)
 		if why != nil {
 			if w := why(j); w != "" {
 				parts[i] += ", " + w
@@ -81,7 +80,7 @@ func thinControlError(d *data, breaks []float64, thin []int, u rating.Units, why
 	if len(thin) > 1 {
 		each = " each"
 	}
-	return fmt.Errorf("%w: %s: fewer than %d%s (%s; the gaugings used lie from %s to %s %s); %s",
+	return errorf("%w: %s: fewer than %d%s (%s; the gaugings used lie from %s to %s %s); %s",
 		ErrThinControl, strings.Join(parts, "; "), MinPerSegment, each, breakList(breaks, L), gh(d.lo), gh(d.hi), L, advice)
 }
 
