@@ -17,13 +17,13 @@ var ErrThinControl = errors.New("a control holds too few gaugings")
 
 // thinControls returns the controls (0-based) of a rating of k controls
 // that breaks (given, ascending, k−1 of them) leave fewer than
-// MinPerSegment of the gaugings d holds, for which keep is false (nil:
-// every control counts).
-func thinControls(d *data, breaks []float64, k int, keep func(j int) bool) []int {
+// MinPerSegment of the gaugings d holds, but for those exempt (a
+// Bayesian control on priors from the survey; nil exempts none).
+func thinControls(d *data, breaks []float64, k int, exempt func(j int) bool) []int {
 	var thin []int
 	for j := range k {
 		lo, hi := controlSpan(breaks, j)
-		if d.countIn(lo, hi) < MinPerSegment && (keep == nil || !keep(j)) {
+		if d.countIn(lo, hi) < MinPerSegment && (exempt == nil || !exempt(j)) {
 			thin = append(thin, j)
 		}
 	}
