@@ -540,10 +540,10 @@ func (f *fitFlags) belowZeroFlow(e *gauged.BelowZeroError) error {
 	L := e.Units.Length()
 	what := fmt.Sprintf("--zero-flow %s", strings.TrimSpace(f.zeroFlow))
 	if strings.EqualFold(strings.TrimSpace(f.zeroFlow), "control") {
-		what = fmt.Sprintf("--zero-flow control (%s %s from %s)", strconv.FormatFloat(e.ZeroFlow, 'g', 6, 64), L, e.Source)
+		what = fmt.Sprintf("--zero-flow control (%s %s from %s)", rating.PlainFigures(e.ZeroFlow, 6), L, e.Source)
 	}
 	return fmt.Errorf("fit: %s: %d of the %d gaugings used lie at or below it, the lowest %s at %s %s, where a rating has no discharge (%w); give a value below every gauging fitted, or auto to fit it",
-		what, e.Count, e.Used, e.Lowest, strconv.FormatFloat(e.Stage, 'g', 6, 64), L, gauged.ErrBelowZero)
+		what, e.Count, e.Used, e.Lowest, rating.PlainFigures(e.Stage, 6), L, gauged.ErrBelowZero)
 }
 
 // parseTime reads a time of --period or --exclude in the forms of

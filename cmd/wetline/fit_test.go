@@ -587,19 +587,27 @@ func TestDemoFitStatesDatum(t *testing.T) {
 	}
 }
 
-// A breakpoint above every gauging leaves a control with none: on weak
-// priors (no section) both methods refuse it with exit status 1, as for
-// other gaugings that cannot carry the fit, the Bayesian fit naming the
-// control and its priors. The demo gaugings reach 2.96 m (demodata).
+// A breakpoint above every gauging leaves a control with none, and one
+// at 2.6 m leaves it two: on weak priors (no section) both methods refuse
+// them with exit status 1, as for other gaugings that cannot carry the
+// fit, naming the control, its stages, how many gaugings it holds and at
+// which stages (the Bayesian fit its priors too). The demo gaugings reach
+// 2.96 m, two of them above 2.6 m (2.74 and 2.96 m; demodata).
 func TestFitBreakAboveGaugingsRefused(t *testing.T) {
 	t.Parallel()
-	for _, method := range []string{"bayes", "lsq"} {
-		out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", method, "--breaks", "3.5")
-		if code != 1 || out != "" || !strings.Contains(errs, "leave") {
-			t.Errorf("%s: exit %d, stdout %q, stderr %q", method, code, out, errs)
-		}
-		if method == "bayes" && !strings.Contains(errs, "control 2 (from 3.5 m up) with 0 of the gaugings used") {
-			t.Errorf("bayes: stderr %q does not name the empty control", errs)
+	for _, tc := range []struct{ breaks, want string }{
+		{"3.5", "control 2 (from 3.5 m up) holds 0 of the 24 gaugings used"},
+		{"2.6", "control 2 (from 2.6 m up) holds 2 of the 24 gaugings used, from 2.74 to 2.96 m"},
+	} {
+		for _, method := range []string{"bayes", "lsq"} {
+			out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--method", method, "--breaks", tc.breaks)
+			if code != 1 || out != "" || !strings.Contains(errs, "a control holds too few gaugings: "+tc.want) ||
+				!strings.Contains(errs, "breakpoint given at "+tc.breaks+" m") || strings.Count(errs, "\n") != 1 {
+				t.Errorf("%s --breaks %s: exit %d, stdout %q, stderr %q, want it to name %q", method, tc.breaks, code, out, errs, tc.want)
+			}
+			if method == "bayes" && !strings.Contains(errs, "weak priors") {
+				t.Errorf("bayes --breaks %s: stderr %q does not name the control's priors", tc.breaks, errs)
+			}
 		}
 	}
 }

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -192,7 +191,7 @@ type bayesProblem struct {
 // ControlTable come from the draws.
 //
 // Errors: those of FitControls's options and gaugings, ErrBayesOptions,
-// ErrControlOptions for given breakpoints that leave a control on weak
+// ErrThinControl for given breakpoints that leave a control on weak
 // priors fewer than MinPerSegment gaugings (see givenBreaksHold),
 // ErrNoStart when no start is admissible.
 //
@@ -218,7 +217,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		return nil, err
 	}
 	if d.n() < 1 {
-		return nil, fmt.Errorf("%w: no gauging is used", ErrFewGaugings)
+		return nil, errorf("%w: no gauging is used", ErrFewGaugings)
 	}
 	if opt.OffsetFixed {
 		if err := aboveOffset(gs, d, opt.ControlOptions); err != nil {
@@ -226,7 +225,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		}
 	}
 	if opt.Priors != nil && len(opt.Priors) != len(kinds) {
-		return nil, fmt.Errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
+		return nil, errorf("%w: %d priors for %d controls", ErrBayesOptions, len(opt.Priors), len(kinds))
 	}
 	lsqStarts, lsqFull, noStart := lsqGuess(gs, opt.ControlOptions)
 	b := &bayesProblem{m: newModel(kinds, joints), d: d, opt: opt, warn: warn}
@@ -237,7 +236,7 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 		return nil, err
 	}
 	if len(b.m.free) == 0 {
-		return nil, fmt.Errorf("%w: every parameter is held fixed: nothing to sample", ErrBayesOptions)
+		return nil, errorf("%w: every parameter is held fixed: nothing to sample", ErrBayesOptions)
 	}
 	modes, err := b.modes(lsqFull, lsqStarts, noStart)
 	if err != nil {
@@ -298,38 +297,19 @@ func lsqGuess(gs []Gauging, opt ControlOptions) (starts [][]float64, full []floa
 // gauged stages leaves a weakly held control empty and is refused. A
 // control with priors from the survey or given may hold fewer (it rests on
 // its prior, and thinControls warns of it). The error wraps
-// ErrControlOptions and names the control, its stages and the gauged
-// range.
+// ErrThinControl and names each such control, its stages, the gaugings it
+// holds, its priors and the gauged range.
 func (b *bayesProblem) givenBreaksHold() error {
 	breaks := b.opt.Breaks
 	if breaks == nil {
 		return nil
 	}
-	d, u := b.d, b.opt.Units.Length()
-	for j := range b.m.k() {
-		lo, hi := math.Inf(-1), math.Inf(1)
-		if j > 0 {
-			lo = breaks[j-1]
-		}
-		if j < len(breaks) {
-			hi = breaks[j]
-		}
-		c := d.countIn(lo, hi)
-		if c >= MinPerSegment || b.informative[j] {
-			continue
-		}
-		where := fmt.Sprintf("from %s %s up", gh(lo), u)
-		switch {
-		case j == 0:
-			where = fmt.Sprintf("below %s %s", gh(hi), u)
-		case j+1 < b.m.k():
-			where = fmt.Sprintf("from %s to %s %s", gh(lo), gh(hi), u)
-		}
-		return fmt.Errorf("%w: the breakpoints %v leave control %d (%s) with %d of the gaugings used (%s to %s %s), fewer than %d, "+
-			"with %s: place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest",
-			ErrControlOptions, breaks, j+1, where, c, gh(d.lo), gh(d.hi), u, MinPerSegment, b.sources[j], MinPerSegment)
+	thin := thinControls(b.d, breaks, b.m.k(), func(j int) bool { return b.informative[j] })
+	if thin == nil {
+		return nil
 	}
-	return nil
+	return thinControlError(b.d, breaks, thin, b.opt.Units, func(j int) string { return "with " + b.sources[j] },
+		sayf("place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest", MinPerSegment))
 }
 
 // thinControls warns of each control of rating r (at the posterior mode)
@@ -347,7 +327,7 @@ func (b *bayesProblem) thinControls(r Rating) []string {
 			hi = r.Controls[k+1].From
 		}
 		if c := b.d.countIn(lo, hi); c < MinPerSegment {
-			out = append(out, fmt.Sprintf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, c, b.sources[k]))
+			out = append(out, sayf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, c, b.sources[k]))
 		}
 	}
 	return out
@@ -391,20 +371,20 @@ func (o *BayesOptions) check() error {
 	}
 	switch {
 	case o.Chains < 1 || o.Draws < 4:
-		return fmt.Errorf("%w: %d chains of %d draws (at least 1 chain of 4 draws)", ErrBayesOptions, o.Chains, o.Draws)
+		return errorf("%w: %d chains of %d draws (at least 1 chain of 4 draws)", ErrBayesOptions, o.Chains, o.Draws)
 	case o.Chains > MaxChains || o.Draws > MaxKeptDraws || o.Pilot > MaxKeptDraws || o.Chains*(o.Draws+o.Pilot) > MaxKeptDraws:
-		return fmt.Errorf("%w: %d chains of %d draws after %d pilot iterations: at most %d chains and %d draws in all", ErrBayesOptions, o.Chains, o.Draws, o.Pilot, MaxChains, MaxKeptDraws)
+		return errorf("%w: %d chains of %d draws after %d pilot iterations: at most %d chains and %d draws in all", ErrBayesOptions, o.Chains, o.Draws, o.Pilot, MaxChains, MaxKeptDraws)
 	case !(o.RemnantMedian > 0) || !(o.RemnantLogSD > 0) || math.IsInf(o.RemnantMedian, 0) || math.IsInf(o.RemnantLogSD, 0):
-		return fmt.Errorf("%w: remnant prior median %g, log sd %g", ErrBayesOptions, o.RemnantMedian, o.RemnantLogSD)
+		return errorf("%w: remnant prior median %g, log sd %g", ErrBayesOptions, o.RemnantMedian, o.RemnantLogSD)
 	case o.RemnantFixed && !(o.Remnant >= 0 && !math.IsInf(o.Remnant, 0)):
-		return fmt.Errorf("%w: fixed remnant %g", ErrBayesOptions, o.Remnant)
+		return errorf("%w: fixed remnant %g", ErrBayesOptions, o.Remnant)
 	case !(o.NCV >= 0) || !(o.SlopeCV >= 0) || !(o.CrestCV >= 0):
-		return fmt.Errorf("%w: coefficients of variation %g, %g, %g", ErrBayesOptions, o.NCV, o.SlopeCV, o.CrestCV)
+		return errorf("%w: coefficients of variation %g, %g, %g", ErrBayesOptions, o.NCV, o.SlopeCV, o.CrestCV)
 	}
 	for k, cp := range o.Priors {
 		for _, pp := range []ParamPrior{cp.LogCoefficient, cp.Exponent, cp.Offset, cp.Break} {
 			if pp.given() && (!finite(pp.Mean) || !(pp.SD >= 0)) {
-				return fmt.Errorf("%w: control %d has a prior of mean %g and standard deviation %g", ErrBayesOptions, k+1, pp.Mean, pp.SD)
+				return errorf("%w: control %d has a prior of mean %g and standard deviation %g", ErrBayesOptions, k+1, pp.Mean, pp.SD)
 			}
 		}
 	}
@@ -509,7 +489,7 @@ func (b *bayesProblem) breakPriors() error {
 				return err
 			}
 			if !ok {
-				return fmt.Errorf("%w: control %d adds a floodplain but the section has no overbanks: give its breakpoint", ErrBayesOptions, j+1)
+				return errorf("%w: control %d adds a floodplain but the section has no overbanks: give its breakpoint", ErrBayesOptions, j+1)
 			}
 			b.priors[i] = prior{mean: bank, sd: BankPriorFraction * (bank - o.Hydraulic.Bottom()), lo: math.Inf(-1), hi: math.Inf(1)}
 		default:
@@ -588,7 +568,7 @@ func (b *bayesProblem) controlPriors(est []float64) {
 		}
 		derived, src, err := b.derivedPrior(j, from, to)
 		if err != nil {
-			b.warn = append(b.warn, fmt.Sprintf("control %d: %v: weak priors instead", j+1, err))
+			b.warn = append(b.warn, sayf("control %d: %v: weak priors instead", j+1, err))
 		}
 		gp := b.givenPrior(j)
 		lnA, c := derived.LogCoefficient, derived.Exponent
@@ -642,7 +622,7 @@ func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
 func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, string, error) {
 	m, o := b.m, b.opt
 	weak := ControlPrior{LogCoefficient: ParamPrior{Mean: 0, SD: WeakLogCoefficientSD}, Exponent: weakExponent(m.kinds[j])}
-	weakSrc := fmt.Sprintf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
+	weakSrc := sayf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
 	switch {
 	case m.kinds[j] == ChannelControl && o.Hydraulic != nil:
 		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
@@ -667,7 +647,7 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 		return cp, cp.Source, nil
 	case m.kinds[j] == ChannelControl && o.HydraulicTable != nil:
 		if j > 0 && m.joints[j] == Add {
-			return weak, weakSrc, fmt.Errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
+			return weak, weakSrc, errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
 		}
 		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
 		if p := b.priors[m.iB()]; j == 0 && finite(p.mean) {
@@ -737,7 +717,7 @@ func (b *bayesProblem) modes(lsqFull []float64, lsqStarts [][]float64, noStart e
 		if noStart != nil {
 			return nil, noStart
 		}
-		return nil, fmt.Errorf("%w: the posterior is zero at every start (check the breakpoints, offsets and priors)", ErrNoStart)
+		return nil, errorf("%w: the posterior is zero at every start (check the breakpoints, offsets and priors)", ErrNoStart)
 	}
 	sort.SliceStable(found, func(a, c int) bool { return found[a].lp > found[c].lp })
 	out := []mode{found[0]}

@@ -198,7 +198,7 @@ func TestBayesSameOnAnyCoreCount(t *testing.T) {
 // Given breakpoints must leave every control on weak priors
 // MinPerSegment of the gaugings used, as least squares asks of every
 // control: a breakpoint above or below the gauged stages, or one leaving a
-// control 1 or 2 gaugings, is refused (ErrControlOptions). A control whose
+// control 1 or 2 gaugings, is refused (ErrThinControl). A control whose
 // prior comes from the survey may hold none: a floodplain adding above the
 // gaugings at a given bank stage, its prior from the section, is fitted,
 // with the warning that it rests on its prior. Gaugings from the built
@@ -219,11 +219,11 @@ func TestBayesGivenBreaksHoldGaugings(t *testing.T) {
 	} {
 		_, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: two, Breaks: tc.breaks},
 			Chains: 2, Draws: 200, Seed: 1})
-		if !errors.Is(err, gauged.ErrControlOptions) || !strings.Contains(err.Error(), "weak priors") {
-			t.Errorf("%s, weak priors: %v, want ErrControlOptions naming the weak priors", tc.name, err)
+		if !errors.Is(err, gauged.ErrThinControl) || !strings.Contains(err.Error(), "weak priors") {
+			t.Errorf("%s, weak priors: %v, want ErrThinControl naming the weak priors", tc.name, err)
 		}
 		// Least squares refuses the same breakpoints.
-		if _, err := gauged.FitControls(gs, gauged.ControlOptions{Controls: two, Breaks: tc.breaks}); !errors.Is(err, gauged.ErrControlOptions) {
+		if _, err := gauged.FitControls(gs, gauged.ControlOptions{Controls: two, Breaks: tc.breaks}); !errors.Is(err, gauged.ErrThinControl) {
 			t.Errorf("%s, least squares: %v", tc.name, err)
 		}
 	}

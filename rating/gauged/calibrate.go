@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
 	"gonum.org/v1/gonum/optimize"
@@ -147,14 +146,14 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 	}
 	if above > 0 {
 		u := c.Options.Units
-		cal.Warnings = append(cal.Warnings, fmt.Sprintf(
+		cal.Warnings = append(cal.Warnings, sayf(
 			"%d gauging(s) lie above an end of the section (gauge heights up to %.3f %s; the lower end is at gauge height %.3f %s): they were rated on vertical walls added there; check the datum (elevation = gauge height + datum)",
 			above, highest, u.Length(), c.Top(), u.Length()))
 	}
 	cal.Used = len(parts)
 	if len(parts) == 0 {
 		if len(cal.Warnings) > 0 {
-			return cal, fmt.Errorf("%w (check --datum: elevation = gauge height + datum), e.g. %s", ErrCalibrate, cal.Warnings[len(cal.Warnings)-1])
+			return cal, errorf("%w (check --datum: elevation = gauge height + datum), e.g. %s", ErrCalibrate, cal.Warnings[len(cal.Warnings)-1])
 		}
 		return cal, ErrCalibrate
 	}
@@ -214,7 +213,7 @@ func nPointOf(g Gauging, c rating.HydraulicCurve, scaled rating.ScaledN, sel Sel
 	pt := NPoint{Gauging: g, Factor: math.NaN(), N: math.NaN(), Rated: math.NaN(), Subsection: -1}
 	r, err := c.Row(g.Stage)
 	if err != nil {
-		return pt, nil, "", fmt.Errorf("%s: gauge height %g: %w", g.label(), g.Stage, err)
+		return pt, nil, "", errorf("%s: gauge height %g: %w", g.label(), g.Stage, err)
 	}
 	pt.Rated = r.Discharge
 	pt.aboveEnds = r.ExtendedLeft > 0 || r.ExtendedRight > 0
@@ -231,11 +230,11 @@ func nPointOf(g Gauging, c rating.HydraulicCurve, scaled rating.ScaledN, sel Sel
 	}
 	switch {
 	case !(g.Discharge > 0):
-		return pt, nil, fmt.Sprintf("%s: zero discharge: left out of the calibration", g.label()), nil
+		return pt, nil, sayf("%s: zero discharge: left out of the calibration", g.label()), nil
 	case !(qs > 0):
-		return pt, nil, fmt.Sprintf("%s: gauge height %g: the scaled subsections are dry: no factor on n", g.label(), g.Stage), nil
+		return pt, nil, sayf("%s: gauge height %g: the scaled subsections are dry: no factor on n", g.label(), g.Stage), nil
 	case !(g.Discharge > qo):
-		return pt, nil, fmt.Sprintf("%s: the measured %g is not above the %g the unscaled subsections carry: no factor on the channel's n fits", g.label(), g.Discharge, qo), nil
+		return pt, nil, sayf("%s: the measured %g is not above the %g the unscaled subsections carry: no factor on the channel's n fits", g.label(), g.Discharge, qo), nil
 	}
 	pt.Factor = qs / (g.Discharge - qo)
 	pt.N = pt.Factor * r.Subs[pt.Subsection].N
@@ -276,7 +275,7 @@ func searchLogFactor(parts []calibrationPart, lf float64) (float64, error) {
 			MajorIterations: 5000,
 		}, &optimize.NelderMead{SimplexSize: 0.05})
 	if res == nil {
-		return lf, fmt.Errorf("calibration: %w", err)
+		return lf, errorf("calibration: %w", err)
 	}
 	if res.F <= calibrationSSR(parts, lf) {
 		return res.X[0], nil

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
 	"wetline/rating"
@@ -40,7 +39,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 		}
 	}
 	if lo < plausible.Min || hi > plausible.Max {
-		return rating.ScaledN{}, nil, nil, fmt.Errorf(
+		return rating.ScaledN{}, nil, nil, errorf(
 			"%w: the best factor on n, %.4g from %d gauging(s), makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
 			ErrImplausibleN, cal.Factor, cal.Used, lo, hi, plausible.Min, plausible.Max)
 	}
@@ -51,7 +50,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	u := c.Options.Units
 	ses := " (standard errors not estimated from one gauging)"
 	if !math.IsNaN(cal.StandardErrorPercent) {
-		ses = fmt.Sprintf(" (standard error of the factor %.2f %%); the gaugings scatter %.2f %% about the calibrated rating (standard error of estimate)",
+		ses = sayf(" (standard error of the factor %.2f %%); the gaugings scatter %.2f %% about the calibrated rating (standard error of estimate)",
 			cal.FactorStandardErrorPercent, cal.StandardErrorPercent)
 	}
 	plural := "s"
@@ -59,7 +58,7 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 		plural = ""
 	}
 	notes := append([]string(nil), cal.Warnings...)
-	notes = append(notes, fmt.Sprintf(
+	notes = append(notes, sayf(
 		"n calibrated on %d gauging%s in %s (gauge datum: elevation = gauge height %s %s): %s multiplied by %.4f%s",
 		cal.Used, plural, source, rating.DatumTerm(c.Datum), u.Length(), which, cal.Factor, ses))
 	state := &rating.NCalibration{Source: source, Gaugings: cal.Used, ChannelOnly: channelOnly, Factor: cal.Factor,

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
 	"wetline/rating"
@@ -46,14 +45,14 @@ func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 	for i, g := range gs {
 		q, err := c.Discharge(g.Stage)
 		if err != nil {
-			errs = append(errs, fmt.Errorf("%s: gauge height %g (elevation %g): %w", g.label(), g.Stage, g.Stage+c.Datum, err))
+			errs = append(errs, errorf("%s: gauge height %g (elevation %g): %w", g.label(), g.Stage, g.Stage+c.Datum, err))
 			continue
 		}
 		if g.Stage < c.Bottom() {
-			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is below the section's lowest point (%s on the gauge): check --datum", g.label(), g.Stage, gh(c.Bottom())))
+			cmp.Warnings = append(cmp.Warnings, sayf("%s: gauge height %g is below the section's lowest point (%s on the gauge): check --datum", g.label(), g.Stage, gh(c.Bottom())))
 		}
 		if g.Stage > c.Top() {
-			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: gauge height %g is above the lower end of the section (%s on the gauge)", g.label(), g.Stage, gh(c.Top())))
+			cmp.Warnings = append(cmp.Warnings, sayf("%s: gauge height %g is above the lower end of the section (%s on the gauge)", g.label(), g.Stage, gh(c.Top())))
 		}
 		cmp.Residuals[i] = residualOf(g, q, stageOrNaN(c.Stage))
 	}

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"strings"
 
@@ -54,7 +53,7 @@ func ParseControlKind(s string) (ControlKind, error) {
 			return ControlKind(k), nil
 		}
 	}
-	return UnknownControl, fmt.Errorf("%q: %w", s, ErrControlKind)
+	return UnknownControl, errorf("%q: %w", s, ErrControlKind)
 }
 
 // Exponent ranges of the controls (see ExponentRange).
@@ -131,7 +130,7 @@ func ParseJoint(s string) (Joint, error) {
 	case "add":
 		return Add, nil
 	}
-	return Replace, fmt.Errorf("%q: %w", s, ErrJoint)
+	return Replace, errorf("%q: %w", s, ErrJoint)
 }
 
 // Control is one control of a rating:
@@ -198,24 +197,24 @@ var ErrControls = errors.New("controls do not make a rating")
 //	continuity at the breakpoints).
 func NewRating(cs []Control) (Rating, error) {
 	if len(cs) == 0 || len(cs) > MaxControls {
-		return Rating{}, fmt.Errorf("%w: %d controls (1 to %d)", ErrControls, len(cs), MaxControls)
+		return Rating{}, errorf("%w: %d controls (1 to %d)", ErrControls, len(cs), MaxControls)
 	}
 	r := Rating{Controls: append([]Control(nil), cs...)}
 	for k := range r.Controls {
 		c := &r.Controls[k]
 		if !positiveFinite(c.A) || !positiveFinite(c.C) {
-			return Rating{}, fmt.Errorf("%w: control %d has coefficient %g and exponent %g (both must be positive)", ErrControls, k+1, c.A, c.C)
+			return Rating{}, errorf("%w: control %d has coefficient %g and exponent %g (both must be positive)", ErrControls, k+1, c.A, c.C)
 		}
 		if k == 0 {
 			if math.IsNaN(c.B) || math.IsInf(c.B, 0) {
-				return Rating{}, fmt.Errorf("%w: control 1 has offset %g", ErrControls, c.B)
+				return Rating{}, errorf("%w: control 1 has offset %g", ErrControls, c.B)
 			}
 			c.From = c.B
 			continue
 		}
 		prev := r.Controls[k-1].From
 		if !(c.From > prev) || math.IsInf(c.From, 0) {
-			return Rating{}, fmt.Errorf("%w: breakpoint %d at %g is not above %g", ErrControls, k, c.From, prev)
+			return Rating{}, errorf("%w: breakpoint %d at %g is not above %g", ErrControls, k, c.From, prev)
 		}
 		if c.Joint == Add {
 			c.B = c.From
@@ -287,7 +286,7 @@ const ratingBisect = 200
 // so the root is unique. q ≤ 0 or not finite is ErrNoStage.
 func (r Rating) Stage(q float64) (float64, error) {
 	if !positiveFinite(q) || len(r.Controls) == 0 {
-		return math.NaN(), fmt.Errorf("discharge %g: %w", q, ErrNoStage)
+		return math.NaN(), errorf("discharge %g: %w", q, ErrNoStage)
 	}
 	j := 0
 	for j+1 < len(r.Controls) && r.upTo(j, r.Controls[j+1].From) < q {
@@ -300,7 +299,7 @@ func (r Rating) Stage(q float64) (float64, error) {
 	lo, hi := c.From, c.From+1
 	for i := 0; r.upTo(j, hi) < q; i++ {
 		if i == ratingBisect {
-			return math.NaN(), fmt.Errorf("discharge %g: %w", q, ErrNoStage)
+			return math.NaN(), errorf("discharge %g: %w", q, ErrNoStage)
 		}
 		hi = lo + 2*(hi-lo)
 	}
@@ -341,7 +340,7 @@ func (r Rating) exponentWarnings(bounds []ExponentBounds) []string {
 			}
 		}
 		if c.C < lo || c.C > hi {
-			out = append(out, fmt.Sprintf("control %d (%s) has exponent %.3g, outside %.3g to %.3g that %s: check the control or its breakpoints",
+			out = append(out, sayf("control %d (%s) has exponent %.3g, outside %.3g to %.3g that %s: check the control or its breakpoints",
 				k+1, c.Kind, c.C, lo, hi, what))
 		}
 	}

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 
@@ -182,15 +181,15 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	if c.ok() {
 		top = math.Max(top, c.top())
 		if c.top() < f.HighStage {
-			t.Warnings = append(t.Warnings, fmt.Sprintf("the highest gauging (%s %s) is above %s (%s %s on the gauge)", gh(f.HighStage), u.Length(), end, gh(c.top()), u.Length()))
+			t.Warnings = append(t.Warnings, sayf("the highest gauging (%s %s) is above %s (%s %s on the gauge)", gh(f.HighStage), u.Length(), end, gh(c.top()), u.Length()))
 		}
 	}
 	if opt.To != 0 {
 		if c.ok() && opt.To > math.Max(c.top(), f.HighStage) {
-			return t, fmt.Errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
+			return t, errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
 		}
 		if !(opt.To > lo) {
-			return t, fmt.Errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
+			return t, errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
 		}
 		top = opt.To
 	}
@@ -201,14 +200,14 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 			ext, err = t.join(ext)
 		}
 		if err != nil {
-			t.Warnings = append(t.Warnings, fmt.Sprintf("%v: the fitted rating is carried above the gaugings instead", err))
+			t.Warnings = append(t.Warnings, sayf("%v: the fitted rating is carried above the gaugings instead", err))
 		} else {
 			t.Extension = &ext
 		}
 	}
 	if f.Posterior != nil && !f.Posterior.Converged && !opt.ShowUnconverged {
 		t.BandsWithheld = true
-		t.Warnings = append(t.Warnings, fmt.Sprintf("bands withheld: the chains disagree (R̂ = %.3g > %g)", f.Posterior.RHatMax, RHatLimit))
+		t.Warnings = append(t.Warnings, sayf("bands withheld: the chains disagree (R̂ = %.3g > %g)", f.Posterior.RHatMax, RHatLimit))
 	}
 	t.BandNote = t.bandNote()
 	if top > f.HighStage {
@@ -238,7 +237,7 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	t.Warnings = append(t.Warnings, t.extensionWarnings()...)
 	if len(uncovered) > 0 {
 		lo, hi := t.hyd.tab.Range()
-		t.Warnings = append(t.Warnings, fmt.Sprintf("%d rows from gauge height %.3f to %.3f lie outside the hydraulic rating table (%.3f to %.3f): they have no hydraulic discharge",
+		t.Warnings = append(t.Warnings, sayf("%d rows from gauge height %.3f to %.3f lie outside the hydraulic rating table (%.3f to %.3f): they have no hydraulic discharge",
 			len(uncovered), uncovered[0], uncovered[len(uncovered)-1], lo, hi))
 	}
 	return t, nil
@@ -256,7 +255,7 @@ func (t *ControlTable) join(e ConveyanceSlope) (ConveyanceSlope, error) {
 	}
 	q := f.Rating.Discharge(h)
 	if !(k > 0) || !(q > 0) {
-		return e, fmt.Errorf("%w: no conveyance or fitted discharge at the highest gauging (%s)", ErrExtension, gh(h))
+		return e, errorf("%w: no conveyance or fitted discharge at the highest gauging (%s)", ErrExtension, gh(h))
 	}
 	pLo, pHi, tLo, tHi := f.Band(h)
 	return e.Joined(h, q, k, 0.5*math.Log(pHi/pLo), 0.5*math.Log(tHi/tLo)), nil
@@ -282,21 +281,21 @@ func (t *ControlTable) extensionWarnings() []string {
 	var out []string
 	f := t.fit
 	if t.MaxMultiple > ExtrapolationWarnMultiple {
-		out = append(out, fmt.Sprintf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
+		out = append(out, sayf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
 			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))
 	}
 	if e := t.Extension; e != nil && e.Join != nil {
 		j := e.Join
 		q := j.Conveyance * math.Exp(0.5*j.GaugedLogSlope)
 		if _, _, tLo, tHi := f.Band(j.Stage); q < tLo || q > tHi {
-			out = append(out, fmt.Sprintf("at the highest gauging (%s %s) the upper gaugings' own slope S would give %.4g %s against the fitted rating's %.4g %s, outside its prediction band: the extension is tied to the fitted rating there; check the fit's top control and the section",
+			out = append(out, sayf("at the highest gauging (%s %s) the upper gaugings' own slope S would give %.4g %s against the fitted rating's %.4g %s, outside its prediction band: the extension is tied to the fitted rating there; check the fit's top control and the section",
 				gh(j.Stage), f.Units.Length(), q, f.Units.Discharge(), j.Discharge, f.Units.Discharge()))
 		}
 	}
 	prev := 0.0
 	for _, r := range t.Rows {
 		if r.Discharge < prev {
-			out = append(out, fmt.Sprintf("discharge falls at %g %s: check the section and the extension", r.Stage, f.Units.Length()))
+			out = append(out, sayf("discharge falls at %g %s: check the section and the extension", r.Stage, f.Units.Length()))
 			break
 		}
 		prev = r.Discharge
@@ -308,20 +307,20 @@ func (t *ControlTable) extensionWarnings() []string {
 func (t *ControlTable) aboveNote() string {
 	f := t.fit
 	u := f.Units
-	head := fmt.Sprintf("above the highest gauging (%g %s, %.4g %s) ", f.HighStage, u.Length(), f.MaxDischarge, u.Discharge())
+	head := sayf("above the highest gauging (%g %s, %.4g %s) ", f.HighStage, u.Length(), f.MaxDischarge, u.Discharge())
 	if e := t.Extension; e != nil {
-		how := fmt.Sprintf("levels off (no significant trend, p = %.2g)", e.TrendP)
+		how := sayf("levels off (no significant trend, p = %.2g)", e.TrendP)
 		if math.IsNaN(e.TrendP) {
 			how = "is constant"
 		}
 		if !e.Level {
-			how = fmt.Sprintf("has a trend in ln S of %.3g per %s (p = %.2g)", e.Trend, u.Length(), e.TrendP)
+			how = sayf("has a trend in ln S of %.3g per %s (p = %.2g)", e.Trend, u.Length(), e.TrendP)
 		}
 		ref := "the section's conveyance K"
 		if t.hyd.tab != nil {
 			ref = "the hydraulic rating table's discharge in place of K·√S₀"
 		}
-		return head + fmt.Sprintf("the conveyance-slope extension Q = K·√S(h) on %s, from the fitted rating's S = (Q/K)² there; S of the %d highest gaugings %s (Kennedy, 1984)",
+		return head + sayf("the conveyance-slope extension Q = K·√S(h) on %s, from the fitted rating's S = (Q/K)² there; S of the %d highest gaugings %s (Kennedy, 1984)",
 			ref, len(e.Points), how)
 	}
 	if t.Method == Bayesian && t.topPriorWeak() {
@@ -329,7 +328,7 @@ func (t *ControlTable) aboveNote() string {
 		if ps := f.Posterior.PriorSources; len(ps) > 0 && ps[len(ps)-1] != "" {
 			src = ps[len(ps)-1]
 		}
-		return head + fmt.Sprintf("the table carries the top control's power law on with no hydraulic basis (%s, none from a survey); its bands are those of the posterior carried on", src)
+		return head + sayf("the table carries the top control's power law on with no hydraulic basis (%s, none from a survey); its bands are those of the posterior carried on", src)
 	}
 	if t.Method == Bayesian {
 		return head + "the table carries the fitted controls on; its bands are those of the posterior, which there rests on the top control's prior as the gaugings pull it"
@@ -370,7 +369,7 @@ func tableStages(lo, top, step float64, must []float64) ([]float64, error) {
 		step = rating.NiceStep((top - lo) / rating.MaxDefaultRows)
 	}
 	if (top-lo)/step > rating.MaxStages {
-		return nil, fmt.Errorf("%w: %.3g stages from %s to %s is more than %d", rating.ErrStepTooFine, (top-lo)/step, gh(lo), gh(top), rating.MaxStages)
+		return nil, errorf("%w: %.3g stages from %s to %s is more than %d", rating.ErrStepTooFine, (top-lo)/step, gh(lo), gh(top), rating.MaxStages)
 	}
 	keep := []float64{lo, top}
 	for _, m := range must {
@@ -465,7 +464,7 @@ func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 // table is ErrBeyondSection.
 func (t *ControlTable) At(h float64) (ControlRow, error) {
 	if len(t.Rows) == 0 || math.IsNaN(h) || h < t.Rows[0].Stage-TableEdge || h > t.Rows[len(t.Rows)-1].Stage+TableEdge {
-		return ControlRow{}, fmt.Errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
+		return ControlRow{}, errorf("%w: stage %g is outside the table", ErrBeyondSection, h)
 	}
 	return t.row(h, true)
 }

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 
@@ -156,7 +155,7 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	}
 	s := ConveyanceSlope{TrendP: math.NaN()}
 	if n < ConveyanceSlopeMin {
-		return s, fmt.Errorf("%w: %d gaugings in the upper range, at least %d needed", ErrExtension, n, ConveyanceSlopeMin)
+		return s, errorf("%w: %d gaugings in the upper range, at least %d needed", ErrExtension, n, ConveyanceSlopeMin)
 	}
 	x, y, w := make([]float64, n), make([]float64, n), make([]float64, n)
 	for i, h := range stages {
@@ -165,7 +164,7 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 			return s, err
 		}
 		if !(k > 0) || !(discharges[i] > 0) {
-			return s, fmt.Errorf("%w: no conveyance or discharge at stage %g", ErrExtension, h)
+			return s, errorf("%w: no conveyance or discharge at stage %g", ErrExtension, h)
 		}
 		sl := math.Pow(discharges[i]/k, 2)
 		s.Points = append(s.Points, SlopePoint{Stage: h, Discharge: discharges[i], Conveyance: k, Slope: sl})

@@ -1,7 +1,6 @@
 package gauged
 
 import (
-	"fmt"
 	"time"
 
 	"wetline/rating"
@@ -67,5 +66,5 @@ func (g Gauging) label() string {
 	if g.Source != "" {
 		return g.Source
 	}
-	return fmt.Sprintf("gauging at stage %g", g.Stage)
+	return sayf("gauging at stage %g", g.Stage)
 }

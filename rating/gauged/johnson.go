@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 
@@ -37,7 +36,7 @@ const johnsonFlat = 1e-9
 func JohnsonZeroFlow(g1, g2, g3 float64) (float64, error) {
 	den := g1 + g3 - 2*g2
 	if !(g1 < g2 && g2 < g3) || math.Abs(den) <= johnsonFlat*(g3-g1) {
-		return math.NaN(), fmt.Errorf("stages %g, %g, %g: %w", g1, g2, g3, ErrJohnson)
+		return math.NaN(), errorf("stages %g, %g, %g: %w", g1, g2, g3, ErrJohnson)
 	}
 	return (g1*g3 - g2*g2) / den, nil
 }
@@ -79,7 +78,7 @@ func johnsonFromData(d *data, top float64) JohnsonEstimate {
 		}
 	}
 	if len(x) < johnsonMin {
-		est.Note = fmt.Sprintf("fewer than %d gaugings on the first control", johnsonMin)
+		est.Note = sayf("fewer than %d gaugings on the first control", johnsonMin)
 		return est
 	}
 	lo, hi := x[0], x[0]

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 	"strings"
@@ -44,7 +43,7 @@ func ParseMethod(s string) (Method, error) {
 	case "bayes":
 		return Bayesian, nil
 	}
-	return LeastSquares, fmt.Errorf("%q: %w", s, ErrMethod)
+	return LeastSquares, errorf("%q: %w", s, ErrMethod)
 }
 
 // ControlSpec says what is known of one control before a fit.
@@ -94,15 +93,15 @@ func (o ControlOptions) specs() ([]ControlKind, []Joint, error) {
 		cs = make([]ControlSpec, n)
 	}
 	if len(cs) > MaxControls || (o.Breaks != nil && len(o.Breaks) != len(cs)-1) {
-		return nil, nil, fmt.Errorf("%w (%d controls and %d breakpoints)", ErrControlOptions, len(cs), len(o.Breaks))
+		return nil, nil, errorf("%w (%d controls and %d breakpoints)", ErrControlOptions, len(cs), len(o.Breaks))
 	}
 	for i, b := range o.Breaks {
 		if !finite(b) || (i > 0 && !(b > o.Breaks[i-1])) {
-			return nil, nil, fmt.Errorf("%w: breakpoints %v", ErrControlOptions, o.Breaks)
+			return nil, nil, errorf("%w: breakpoints %v", ErrControlOptions, o.Breaks)
 		}
 	}
 	if o.OffsetFixed && !finite(o.Offset) {
-		return nil, nil, fmt.Errorf("%w: offset %g", ErrControlOptions, o.Offset)
+		return nil, nil, errorf("%w: offset %g", ErrControlOptions, o.Offset)
 	}
 	kinds := make([]ControlKind, len(cs))
 	joints := make([]Joint, len(cs))
@@ -231,8 +230,11 @@ type lsqProblem struct {
 //
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
 // are not fitted but get their departures. Errors: ErrControlOptions,
-// ErrGauging, ErrBelowZero (a gauging at or below a fixed offset),
-// ErrFewGaugings, ErrNoStart (naming the control that cannot start).
+// ErrThinControl (given breakpoints leaving a control fewer than
+// MinPerSegment gaugings: it names each such control, its stages and the
+// gaugings it holds), ErrGauging, ErrBelowZero (a gauging at or below a
+// fixed offset), ErrFewGaugings, ErrNoStart (naming the control that
+// cannot start).
 //
 // References:
 //
@@ -305,16 +307,18 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	sort.Ints(m.free)
 	n, np := d.n(), len(m.free)
 	if n < np+1 || n < k*MinPerSegment {
-		return nil, nil, nil, fmt.Errorf("%w: %d gaugings used for %d parameters and %d controls of at least %d gaugings each",
+		return nil, nil, nil, errorf("%w: %d gaugings used for %d parameters and %d controls of at least %d gaugings each",
 			ErrFewGaugings, n, np, k, MinPerSegment)
 	}
 	if !(d.hi > d.lo) {
-		return nil, nil, nil, fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
+		return nil, nil, nil, errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
 	}
 	p := &lsqProblem{m: m, d: d, opt: opt, fitBreak: opt.Breaks == nil && k > 1}
-	if opt.Breaks != nil && !p.segmentsHold(opt.Breaks) {
-		return nil, nil, nil, fmt.Errorf("%w: the breakpoints %v leave a control with fewer than %d of the gaugings (%g to %g)",
-			ErrControlOptions, opt.Breaks, MinPerSegment, d.lo, d.hi)
+	if opt.Breaks != nil {
+		if thin := thinControls(d, opt.Breaks, k, nil); thin != nil {
+			return nil, nil, nil, thinControlError(d, opt.Breaks, thin, opt.Units, nil,
+				sayf("least squares needs %d on every control: place the breakpoints so that each control holds %d, or fit fewer controls", MinPerSegment, MinPerSegment))
+		}
 	}
 	p.scale = scales(m, d)
 	return p, reasons, warn, nil
@@ -340,7 +344,7 @@ type BelowZeroError struct {
 
 func (e *BelowZeroError) Error() string {
 	L := e.Units.Length()
-	return fmt.Sprintf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
+	return sayf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
 		"a rating has no discharge there (%v)", e.Count, e.Used, gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
 }
 
@@ -443,7 +447,7 @@ func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
 		}
 	}
 	if best == nil || math.IsInf(bestF, 1) {
-		return nil, 0, fmt.Errorf("%w: the gaugings do not determine the controls", ErrFewGaugings)
+		return nil, 0, errorf("%w: the gaugings do not determine the controls", ErrFewGaugings)
 	}
 	return best, bestF, nil
 }
@@ -473,7 +477,7 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 		}
 		ssr := sumSq(p.residuals(p.m.freeOf(full)))
 		if math.IsInf(ssr, 1) {
-			why = fmt.Errorf("%w: the first guess leaves a gauging without discharge (check the offsets and breakpoints)", ErrNoStart)
+			why = errorf("%w: the first guess leaves a gauging without discharge (check the offsets and breakpoints)", ErrNoStart)
 			continue
 		}
 		top = append(top, lsqStart{full, ssr})
@@ -485,11 +489,11 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 	switch {
 	case len(top) > 0:
 	case p.fitBreak:
-		return nil, fmt.Errorf("%w: none of %d trial sets of breakpoints gives a rating rising through the gaugings of every control: try fewer controls or give --breaks", ErrNoStart, len(sets))
+		return nil, errorf("%w: none of %d trial sets of breakpoints gives a rating rising through the gaugings of every control: try fewer controls or give --breaks", ErrNoStart, len(sets))
 	case why != nil:
 		return nil, why
 	default:
-		return nil, fmt.Errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
+		return nil, errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
 	}
 	out := make([][]float64, len(top))
 	for i, s := range top {
@@ -596,7 +600,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 		}
 	}
 	if math.IsInf(best, 1) {
-		return nil, fmt.Errorf("%w: control 1 (gauge heights %g to %g) has no power law rising through its gaugings", ErrNoStart, h0[0], h0[len(h0)-1])
+		return nil, errorf("%w: control 1 (gauge heights %g to %g) has no power law rising through its gaugings", ErrNoStart, h0[0], h0[len(h0)-1])
 	}
 	for j := 1; j < k; j++ {
 		lo, hi := edge(j)
@@ -606,7 +610,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 		}
 		below, ok := p.m.ratingUpTo(full, j-1)
 		if !ok {
-			return nil, fmt.Errorf("%w: controls 1 to %d make no rating below breakpoint %g", ErrNoStart, j, br[j-1])
+			return nil, errorf("%w: controls 1 to %d make no rating below breakpoint %g", ErrNoStart, j, br[j-1])
 		}
 		var lnA, c float64
 		if m.joints[j] == Add {
@@ -619,13 +623,13 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 				for _, y := range ys {
 					qlo, qhi = math.Min(qlo, math.Exp(y)), math.Max(qhi, math.Exp(y))
 				}
-				return nil, fmt.Errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %d gaugings (%g to %g, discharge %.4g to %.4g) do not rise from it: try another breakpoint or fewer controls",
+				return nil, errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %d gaugings (%g to %g, discharge %.4g to %.4g) do not rise from it: try another breakpoint or fewer controls",
 					ErrNoStart, j+1, br[j-1], q0, j, len(hs), hs[0], hs[len(hs)-1], qlo, qhi)
 			}
 		}
 		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
 		if _, ok := p.m.ratingUpTo(full, j); !ok {
-			return nil, fmt.Errorf("%w: control %d, from gauge height %g, would need an exponent of %.3g to join control %d there and pass through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
+			return nil, errorf("%w: control %d, from gauge height %g, would need an exponent of %.3g to join control %d there and pass through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
 				ErrNoStart, j+1, br[j-1], c, j, len(hs), hs[0], hs[len(hs)-1])
 		}
 	}
@@ -635,7 +639,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 // thinStart is sequential's error for control j (from 0) holding only n
 // gaugings between breakpoints br.
 func (p *lsqProblem) thinStart(j, n int, br []float64) error {
-	return fmt.Errorf("%w: control %d holds %d gauging(s), too few to start from (breakpoints %v)", ErrNoStart, j+1, n, br)
+	return errorf("%w: control %d holds %d gauging(s), too few to start from (breakpoints %v)", ErrNoStart, j+1, n, br)
 }
 
 // slice returns the stages, ln Q and weights of the gaugings with
@@ -878,7 +882,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	f.Tests = RelationChecks(dep)
 	for _, t := range []RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		if t.Failed {
-			f.Warnings = append(f.Warnings, fmt.Sprintf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))
+			f.Warnings = append(f.Warnings, sayf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))
 		}
 	}
 	top := math.Inf(1)
@@ -889,7 +893,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	if b := f.Rating.Controls[0].B; f.Johnson.OK {
 		depth := math.Min(top, d.hi) - b
 		if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
-			f.Warnings = append(f.Warnings, fmt.Sprintf(
+			f.Warnings = append(f.Warnings, sayf(
 				"Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
 		}
@@ -909,6 +913,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	}
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
+	f.Warnings = append(f.Warnings, f.stepWarnings()...)
 }
 
 // zeroFlowConflicts returns a warning for each gauging of gs (those of the
@@ -932,10 +937,10 @@ func zeroFlowConflicts(gs []Gauging, e float64, source string, u rating.Units, o
 		}
 		switch {
 		case g.Discharge == 0 && g.Stage > e && gh(g.Stage) != gh(e):
-			out = append(out, fmt.Sprintf("%s: zero discharge measured at gauge height %s %s, above the gauge height of zero flow e = %s %s (%s), where the rating has flow: "+
+			out = append(out, sayf("%s: zero discharge measured at gauge height %s %s, above the gauge height of zero flow e = %s %s (%s), where the rating has flow: "+
 				"check the gauging, and whether the control had changed", name, gh(g.Stage), L, gh(e), L, source))
 		case g.Discharge > 0 && !(g.Stage > e):
-			out = append(out, fmt.Sprintf("%s: discharge %.4g %s measured at gauge height %s %s, at or below the gauge height of zero flow e = %s %s (%s), where the rating has none: "+
+			out = append(out, sayf("%s: discharge %.4g %s measured at gauge height %s %s, at or below the gauge height of zero flow e = %s %s (%s), where the rating has none: "+
 				"check the gauging, and whether the control had changed", name, g.Discharge, Q, gh(g.Stage), L, gh(e), L, source))
 		}
 	}

@@ -1,7 +1,6 @@
 package gauged
 
 import (
-	"fmt"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -158,13 +157,13 @@ func (b *bayesProblem) derivedSummaries(band []bandDraw) []ParamSummary {
 		return v
 	}
 	for j := 0; j < k; j++ {
-		s := summarise(fmt.Sprintf("a%d", j+1), col(func(d bandDraw) float64 { return d.r.Controls[j].A }))
+		s := summarise(sayf("a%d", j+1), col(func(d bandDraw) float64 { return d.r.Controls[j].A }))
 		s.Derived = true
 		out = append(out, s)
 	}
 	for j := 1; j < k; j++ {
 		if b.m.joints[j] == Replace {
-			s := summarise(fmt.Sprintf("b%d", j+1), col(func(d bandDraw) float64 { return d.r.Controls[j].B }))
+			s := summarise(sayf("b%d", j+1), col(func(d bandDraw) float64 { return d.r.Controls[j].B }))
 			s.Derived = true
 			out = append(out, s)
 		}
@@ -180,11 +179,11 @@ func (b *bayesProblem) derivedSummaries(band []bandDraw) []ParamSummary {
 // likelihoodText states the likelihood's convention.
 func (b *bayesProblem) likelihoodText() string {
 	o := b.opt
-	rem := fmt.Sprintf("a remnant error σ_r in ln Q, log-normal prior with median %.3g and log standard deviation %.3g", o.RemnantMedian, o.RemnantLogSD)
+	rem := sayf("a remnant error σ_r in ln Q, log-normal prior with median %.3g and log standard deviation %.3g", o.RemnantMedian, o.RemnantLogSD)
 	if o.RemnantFixed {
-		rem = fmt.Sprintf("a remnant error σ_r held at %.3g in ln Q", o.Remnant)
+		rem = sayf("a remnant error σ_r held at %.3g in ln Q", o.Remnant)
 	}
-	return fmt.Sprintf("ln Q of each gauging is normal about the rating with variance σ² + σ_r²: σ is the gauging's uncertainty, "+
+	return sayf("ln Q of each gauging is normal about the rating with variance σ² + σ_r²: σ is the gauging's uncertainty, "+
 		"or its quality band (excellent 2 %%, good 5 %%, fair 8 %%, poor 12 %%, unrated 8 %%), read as a 95 %% expanded uncertainty, σ = U/1.96; %s", rem)
 }
 
@@ -192,14 +191,14 @@ func (b *bayesProblem) likelihoodText() string {
 func (p *Posterior) warnings() []string {
 	var out []string
 	if !p.Converged {
-		out = append(out, fmt.Sprintf("the chains disagree (R̂ = %.3g for %s, above %g): the posterior is not established and bands are withheld unless asked; draw more or check the controls and priors",
+		out = append(out, sayf("the chains disagree (R̂ = %.3g for %s, above %g): the posterior is not established and bands are withheld unless asked; draw more or check the controls and priors",
 			p.RHatMax, p.RHatParam, RHatLimit))
 	}
 	if p.ESSMin < MinESS {
-		out = append(out, fmt.Sprintf("the effective sample size of %s is %.0f, below %d: draw more for stable bands", p.ESSParam, p.ESSMin, MinESS))
+		out = append(out, sayf("the effective sample size of %s is %.0f, below %d: draw more for stable bands", p.ESSParam, p.ESSMin, MinESS))
 	}
 	if p.Modes > 1 {
-		out = append(out, fmt.Sprintf("the posterior has %d local modes within %g of the best in log density (the breakpoints): chains were started at each", p.Modes, modeGap))
+		out = append(out, sayf("the posterior has %d local modes within %g of the best in log density (the breakpoints): chains were started at each", p.Modes, modeGap))
 	}
 	return out
 }
@@ -225,15 +224,15 @@ func (b *bayesProblem) controlsFromPosterior(r Rating, p *Posterior) []FittedCon
 		return math.NaN()
 	}
 	for j, c := range r.Controls {
-		fc := FittedControl{Control: c, ASE: sd(fmt.Sprintf("a%d", j+1)), CSE: sd(fmt.Sprintf("c%d", j+1)), BSE: math.NaN(), FromSE: math.NaN()}
+		fc := FittedControl{Control: c, ASE: sd(sayf("a%d", j+1)), CSE: sd(sayf("c%d", j+1)), BSE: math.NaN(), FromSE: math.NaN()}
 		switch {
 		case j == 0:
 			fc.BSE = sd("b1")
 			fc.FromSE = fc.BSE
 		case c.Joint == Replace:
-			fc.BSE, fc.FromSE = sd(fmt.Sprintf("b%d", j+1)), sd(fmt.Sprintf("break%d", j+1))
+			fc.BSE, fc.FromSE = sd(sayf("b%d", j+1)), sd(sayf("break%d", j+1))
 		default:
-			fc.FromSE = sd(fmt.Sprintf("break%d", j+1))
+			fc.FromSE = sd(sayf("break%d", j+1))
 			fc.BSE = fc.FromSE
 		}
 		out[j] = fc

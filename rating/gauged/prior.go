@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 
 	"wetline/rating"
@@ -198,7 +197,7 @@ func CrestPrior(crest rating.HydraulicCurve, from, to, cv float64) (ControlPrior
 	z := crest.Bottom()
 	from = math.Max(from, z)
 	if !(to > from) || !(cv >= 0) {
-		return ControlPrior{}, fmt.Errorf("%w: crest range %g to %g (crest at %g), cv %g", ErrPrior, from, to, z, cv)
+		return ControlPrior{}, errorf("%w: crest range %g to %g (crest at %g), cv %g", ErrPrior, from, to, z, cv)
 	}
 	opt := crest.Options
 	head := func(q float64) (float64, error) {
@@ -228,7 +227,7 @@ func CrestPrior(crest rating.HydraulicCurve, from, to, cv float64) (ControlPrior
 		LogCoefficient: ParamPrior{Mean: lnA, SD: logSD(cv)},
 		Exponent:       ParamPrior{Mean: c, SD: HydraulicExponentSD},
 		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - z)},
-		Source: fmt.Sprintf("critical flow over the crest section from %.4g to %.4g %s (Q = %.4g·(h − %.4g)^%.3g, cv %.2g)",
+		Source: sayf("critical flow over the crest section from %.4g to %.4g %s (Q = %.4g·(h − %.4g)^%.3g, cv %.2g)",
 			from, to, crest.Options.Units.Length(), math.Exp(lnA), b, c, cv),
 	}, nil
 }
@@ -253,7 +252,7 @@ func crestDischarge(head func(float64) (float64, error), h float64) (float64, er
 			break
 		}
 		if i == crestBisect {
-			return 0, fmt.Errorf("%w: no discharge reaches stage %g over the crest", ErrPrior, h)
+			return 0, errorf("%w: no discharge reaches stage %g over the crest", ErrPrior, h)
 		}
 		hi += 2
 	}
@@ -267,7 +266,7 @@ func crestDischarge(head func(float64) (float64, error), h float64) (float64, er
 			break
 		}
 		if i == crestBisect {
-			return 0, fmt.Errorf("%w: stage %g is at the crest", ErrPrior, h)
+			return 0, errorf("%w: stage %g is at the crest", ErrPrior, h)
 		}
 		hi, lo = lo, lo-2
 	}
@@ -311,7 +310,7 @@ func fitCurve(q func(float64) (float64, error), from, to float64, bFixed bool, b
 // lowest stage, then Levenberg–Marquardt.
 func fitPoints(h, y []float64, bFixed bool, b0 float64) (lnA, c, b float64, err error) {
 	if len(h) < 3 {
-		return 0, 0, 0, fmt.Errorf("%w: fewer than 3 points with discharge", ErrPrior)
+		return 0, 0, 0, errorf("%w: fewer than 3 points with discharge", ErrPrior)
 	}
 	from, to := h[0], h[len(h)-1]
 	w := make([]float64, len(h))
@@ -321,7 +320,7 @@ func fitPoints(h, y []float64, bFixed bool, b0 float64) (lnA, c, b float64, err 
 	if bFixed {
 		lnA, c, _, ok := powerFit(h, y, w, b0)
 		if !ok {
-			return 0, 0, 0, fmt.Errorf("%w: no power law through the rating from %g to %g", ErrPrior, from, to)
+			return 0, 0, 0, errorf("%w: no power law through the rating from %g to %g", ErrPrior, from, to)
 		}
 		return lnA, c, b0, nil
 	}
@@ -332,7 +331,7 @@ func fitPoints(h, y []float64, bFixed bool, b0 float64) (lnA, c, b float64, err 
 		}
 	}
 	if math.IsInf(best, 1) {
-		return 0, 0, 0, fmt.Errorf("%w: no power law through the rating from %g to %g", ErrPrior, from, to)
+		return 0, 0, 0, errorf("%w: no power law through the rating from %g to %g", ErrPrior, from, to)
 	}
 	res := func(x []float64) []float64 {
 		out := make([]float64, len(h))

@@ -1,7 +1,6 @@
 package gauged
 
 import (
-	"fmt"
 	"math"
 	"strconv"
 
@@ -102,7 +101,7 @@ func tableDischarge(t *TableRating, h float64) (float64, error) {
 	}
 	q, how := t.Discharge(h)
 	if how == OutsideTable || math.IsNaN(q) {
-		return math.NaN(), fmt.Errorf("%w: gauge height %s is outside %s to %s of %s", ErrBeyondTable, gh(h), gh(lo), gh(hi), t.Name())
+		return math.NaN(), errorf("%w: gauge height %s is outside %s to %s of %s", ErrBeyondTable, gh(h), gh(lo), gh(hi), t.Name())
 	}
 	return q, nil
 }
@@ -129,7 +128,7 @@ func CompareTable(gs []Gauging, t *TableRating) Comparison {
 	for i, g := range gs {
 		q, err := tableDischarge(t, g.Stage)
 		if err != nil {
-			cmp.Warnings = append(cmp.Warnings, fmt.Sprintf("%s: not compared with the hydraulic rating: %v", g.label(), err))
+			cmp.Warnings = append(cmp.Warnings, sayf("%s: not compared with the hydraulic rating: %v", g.label(), err))
 			cmp.Residuals[i] = Residual{Gauging: g, Fitted: math.NaN(), DeparturePercent: math.NaN(), LogResidual: math.NaN(), Shift: math.NaN()}
 			continue
 		}
@@ -163,7 +162,7 @@ func CompareTable(gs []Gauging, t *TableRating) Comparison {
 //	Journal of Hydrology 509, 573–587.
 func TablePrior(t *TableRating, from, to float64, opt HydraulicPriorOptions) (ControlPrior, error) {
 	if opt.Part != WholeSection {
-		return ControlPrior{}, fmt.Errorf("%w: a table gives the whole discharge only, not the channel's or the overbanks' share", ErrPrior)
+		return ControlPrior{}, errorf("%w: a table gives the whole discharge only, not the channel's or the overbanks' share", ErrPrior)
 	}
 	q := func(h float64) (float64, error) { return tableDischarge(t, h) }
 	lo, hi := t.Range()
@@ -173,12 +172,12 @@ func TablePrior(t *TableRating, from, to float64, opt HydraulicPriorOptions) (Co
 	}
 	to = math.Min(to, hi)
 	if !(to > from) {
-		return ControlPrior{}, fmt.Errorf("%w: the table %s (gauge heights %s to %s) does not reach the control's range %s to %s",
+		return ControlPrior{}, errorf("%w: the table %s (gauge heights %s to %s) does not reach the control's range %s to %s",
 			ErrPrior, t.Name(), gh(lo), gh(hi), gh(wantFrom), gh(wantTo))
 	}
 	what := "hydraulic rating table " + t.Name()
 	if from != wantFrom || to != wantTo {
-		what += fmt.Sprintf(" (the part of the control's range %s to %s that it covers)", gh(wantFrom), gh(wantTo))
+		what += sayf(" (the part of the control's range %s to %s that it covers)", gh(wantFrom), gh(wantTo))
 	}
 	return curvePrior(q, TableBottom(t), from, to, opt, what)
 }
@@ -195,7 +194,7 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 		scv = DefaultSlopeCV
 	}
 	if !(ncv >= 0) || !(scv >= 0) || !(to > from) {
-		return ControlPrior{}, fmt.Errorf("%w: range %g to %g, n cv %g, slope cv %g", ErrPrior, from, to, ncv, scv)
+		return ControlPrior{}, errorf("%w: range %g to %g, n cv %g, slope cv %g", ErrPrior, from, to, ncv, scv)
 	}
 	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset)
 	if err != nil {
@@ -206,7 +205,7 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 		LogCoefficient: ParamPrior{Mean: lnA, SD: sdA},
 		Exponent:       ParamPrior{Mean: cc, SD: HydraulicExponentSD},
 		Offset:         ParamPrior{Mean: b, SD: OffsetPriorFraction * (to - bottom)},
-		Source: fmt.Sprintf("%s from %.4g to %.4g %s (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
+		Source: sayf("%s from %.4g to %.4g %s (Q = %.4g·%s^%.3g, n cv %.2g, slope cv %.2g)",
 			what, from, to, opt.Units.Length(), math.Exp(lnA), depthAbove(b), cc, ncv, scv),
 	}, nil
 }
@@ -215,7 +214,7 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 // negative.
 func depthAbove(b float64) string {
 	if b < 0 {
-		return fmt.Sprintf("(h + %.4g)", -b)
+		return sayf("(h + %.4g)", -b)
 	}
-	return fmt.Sprintf("(h − %.4g)", b)
+	return sayf("(h − %.4g)", b)
 }

@@ -3,7 +3,6 @@ package gauged
 import (
 	"cmp"
 	"errors"
-	"fmt"
 	"math"
 	"time"
 
@@ -175,7 +174,7 @@ type Report struct {
 // UncertaintyConvention states, for every report, how a gauging's
 // uncertainty enters a fit: the convention of Gauging.LogSigma.
 func UncertaintyConvention() string {
-	return fmt.Sprintf("each gauging's uncertainty is its uncertainty column (percent at 95 %%) or else its quality grade read as a 95 %% expanded uncertainty "+
+	return sayf("each gauging's uncertainty is its uncertainty column (percent at 95 %%) or else its quality grade read as a 95 %% expanded uncertainty "+
 		"(excellent %g %%, good %g %%, fair %g %%, poor %g %%, unrated %g %%): σ = U/%.2f in ln Q",
 		rating.Excellent.WeightPercent(), rating.Good.WeightPercent(), rating.Fair.WeightPercent(),
 		rating.Poor.WeightPercent(), rating.Unrated.WeightPercent(), CoverageFactor95)
@@ -248,7 +247,7 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	r := &Report{Hydraulic: ref.sec, HydraulicTable: ref.tab, Site: opt.Site, Section: opt.Section, Units: opt.Units, Datum: math.NaN(), Slope: math.NaN(),
 		Gaugings: gs, Selection: opt.Controls.Selection, Method: opt.Method, BankStage: math.NaN(), DatumGiven: opt.DatumGiven, UTCOffset: opt.UTCOffset}
 	if !ref.ok() && (opt.CompareOnly || opt.ZeroFlowControl) {
-		return nil, fmt.Errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
+		return nil, errorf("comparison with a hydraulic rating and the offset from the survey's control: %w", ErrNoHydraulic)
 	}
 	if err := r.compare(gs, ref, opt); err != nil {
 		return nil, err
@@ -284,7 +283,7 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	}
 	r.MoreControls = moreControls(gs, co, f)
 	if m := r.MoreControls; m.Poor {
-		r.Warnings = append(r.Warnings, fmt.Sprintf(
+		r.Warnings = append(r.Warnings, sayf(
 			"%d control(s) fit these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
 			m.Controls, m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
 	}
@@ -300,7 +299,7 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	if opt.Lookup {
 		r.Lookup, err = LookupControlRows(&t)
 		if errors.Is(err, rating.ErrLookupRange) {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("no lookup table: %v", err))
+			r.Warnings = append(r.Warnings, sayf("no lookup table: %v", err))
 		} else if err != nil {
 			return nil, err
 		}
@@ -461,10 +460,10 @@ func (r *Report) floodplainWarnings() []string {
 		if q >= lo && q <= hi {
 			continue
 		}
-		msg := fmt.Sprintf("above the highest gauging the table carries the fitted controls on, but at %.4g %s the hydraulic rating scaled to meet them at the highest gauging gives %.4g %s, outside their total band (%.4g to %.4g %s): one power law carried on does not follow the hydraulics",
+		msg := sayf("above the highest gauging the table carries the fitted controls on, but at %.4g %s the hydraulic rating scaled to meet them at the highest gauging gives %.4g %s, outside their total band (%.4g to %.4g %s): one power law carried on does not follow the hydraulics",
 			row.Stage, u.Length(), q, u.Discharge(), lo, hi, u.Discharge())
 		if !math.IsNaN(r.BankStage) && r.BankStage < t.Rows[len(t.Rows)-1].Stage {
-			msg += fmt.Sprintf("; the overbanks start to flow at %.3g %s: fit a control that adds there", r.BankStage, u.Length())
+			msg += sayf("; the overbanks start to flow at %.3g %s: fit a control that adds there", r.BankStage, u.Length())
 		} else {
 			msg += "; fit another control, or extend by conveyance-slope (least squares)"
 		}
@@ -522,6 +521,6 @@ func withinSection(gs []Gauging, c rating.HydraulicCurve) error {
 		}
 		lo, hi = math.Min(lo, g.Stage), math.Max(hi, g.Stage)
 	}
-	return fmt.Errorf("%w: gauge heights %g to %g are elevations %g to %g at datum %g, and the section runs from %g to %g",
+	return errorf("%w: gauge heights %g to %g are elevations %g to %g at datum %g, and the section runs from %g to %g",
 		ErrGaugingsOutsideSection, lo, hi, lo+c.Datum, hi+c.Datum, c.Datum, c.Geometry.Bottom(), c.Geometry.Top())
 }

@@ -2,7 +2,6 @@ package gauged
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"sort"
 	"strings"
@@ -155,7 +154,7 @@ func selectGaugings(gs []Gauging, sel Selection) (*data, []string, []string, err
 	var use []item
 	for i, g := range gs {
 		if !finite(g.Stage) || !finite(g.Discharge) || g.Discharge < 0 || g.Uncertainty < 0 || !finite(g.Uncertainty) {
-			errs = append(errs, fmt.Errorf("%s: stage %g, discharge %g, uncertainty %g %%: %w", g.label(), g.Stage, g.Discharge, g.Uncertainty, ErrGauging))
+			errs = append(errs, errorf("%s: stage %g, discharge %g, uncertainty %g %%: %w", g.label(), g.Stage, g.Discharge, g.Uncertainty, ErrGauging))
 			continue
 		}
 		reasons[i] = sel.Reason(g)
@@ -168,7 +167,7 @@ func selectGaugings(gs []Gauging, sel Selection) (*data, []string, []string, err
 	}
 	var warn []string
 	for _, m := range sel.Unmatched(gs) {
-		warn = append(warn, fmt.Sprintf("no gauging at %s to exclude", TimeText(m.Time, sel.UTCOffset)))
+		warn = append(warn, sayf("no gauging at %s to exclude", TimeText(m.Time, sel.UTCOffset)))
 	}
 	sort.SliceStable(use, func(a, b int) bool { return use[a].h < use[b].h })
 	d := &data{}
