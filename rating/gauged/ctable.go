@@ -235,6 +235,10 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		}
 	}
 	t.Warnings = append(t.Warnings, t.extensionWarnings()...)
+	if fl := f.BandFloor(); t.rowsWithin(f.Rating.Controls[0].B, fl) > 0 && !t.BandsWithheld {
+		t.Warnings = append(t.Warnings, sayf("no bands below gauge height %s %s: it is the upper end of the 95 %% band of the gauge height of zero flow (%s ± %s %s), below which the linearised band does not hold",
+			gh(fl), f.Units.Length(), gh(f.Controls[0].B), rating.PlainFigures(f.Controls[0].BSE, 2), f.Units.Length()))
+	}
 	if len(uncovered) > 0 {
 		lo, hi := t.hyd.tab.Range()
 		t.Warnings = append(t.Warnings, sayf("%d rows from gauge height %.3f to %.3f lie outside the hydraulic rating table (%.3f to %.3f): they have no hydraulic discharge",
@@ -259,6 +263,48 @@ func (t *ControlTable) join(e ConveyanceSlope) (ConveyanceSlope, error) {
 	}
 	pLo, pHi, tLo, tHi := f.Band(h)
 	return e.Joined(h, q, k, 0.5*math.Log(pHi/pLo), 0.5*math.Log(tHi/tLo)), nil
+}
+
+// BandFloor is the lowest gauge height (length unit) at which a
+// least-squares fit gives bands: its first offset B₁ plus t·SE(B₁), the
+// upper end of the offset's own 95 % band (B₁ when the offset is given or
+// its standard error is not available; NaN for a Bayesian fit, whose
+// bands need no floor).
+//
+// Below it the delta method fails: the gradient of ln Q in B₁,
+// −C/(h − B₁), grows without bound as h falls to B₁, and the linearised
+// upper bound Q·exp(t·C·SE(B₁)/(h − B₁)) has its minimum at
+// h − B₁ = t·SE(B₁) and rises below it, to above the discharge of gauge
+// heights far higher (a trial's rating: 3.7 m³/s at 6 mm above zero flow,
+// for a discharge of 0.0012). A band there would be read as a bound, so
+// none is given.
+//
+// References:
+//
+//	Seber, G. A. F., Wild, C. J. (1989). Nonlinear Regression. Wiley,
+//	chapter 5 (linearisation and its failure where the model is far from
+//	linear in a parameter; from memory).
+func (f *ControlFit) BandFloor() float64 {
+	if f.Method == Bayesian || len(f.Controls) == 0 {
+		return math.NaN()
+	}
+	c := f.Controls[0]
+	if math.IsNaN(c.BSE) || math.IsInf(c.BSE, 0) {
+		return c.B
+	}
+	return c.B + f.tq*c.BSE
+}
+
+// rowsWithin counts the table's rows strictly between gauge heights lo
+// and hi.
+func (t *ControlTable) rowsWithin(lo, hi float64) int {
+	n := 0
+	for _, r := range t.Rows {
+		if r.Stage > lo && r.Stage < hi {
+			n++
+		}
+	}
+	return n
 }
 
 // bandNote says what the bands of the table are.
@@ -507,7 +553,9 @@ func LookupControlRows(t *ControlTable) ([]ControlRow, error) {
 // with g the gradient of ln Q̂ in the parameters, Σ their covariance, s
 // the standard error of estimate and t Student's quantile with n − p
 // degrees of freedom; Bayesian, PosteriorBand. NaN at or below the first
-// offset and where the covariance is not available.
+// offset and where the covariance is not available; least squares, NaN
+// also below BandFloor, where the gauge height lies within the 95 % band
+// of the fitted gauge height of zero flow itself.
 //
 // References:
 //
@@ -518,7 +566,7 @@ func (f *ControlFit) Band(h float64) (pLo, pHi, tLo, tHi float64) {
 		return f.PosteriorBand(h)
 	}
 	nan := math.NaN()
-	if f.cov == nil || !(h > f.Rating.Controls[0].B) {
+	if f.cov == nil || !(h > f.Rating.Controls[0].B) || h < f.BandFloor() {
 		return nan, nan, nan, nan
 	}
 	lq := func(x []float64) []float64 {
