@@ -107,7 +107,7 @@ func BackwaterProfiles(w io.Writer, r BackwaterPlot) (Result, error) {
 	p.X.Min, p.X.Max = secs[0].Distance-0.04*xspan, secs[len(secs)-1].Distance+0.04*xspan
 	sub := r.Subtitle
 	if sub == "" {
-		sub = fmt.Sprintf("%d profiles through %d sections", len(r.Profiles), len(secs))
+		sub = rating.Counted(len(r.Profiles), "profile", "profiles") + " through " + rating.Counted(len(secs), "section", "sections")
 	}
 	fig := figure{title: titleOf(r.Site, r.Reach, "step-backwater profiles"), subtitle: sub,
 		foot: append(append([]string(nil), r.Notes...), orDefault(r.Caution, DefaultBackwaterCaution))}

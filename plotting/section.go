@@ -227,8 +227,8 @@ func (s SectionPlot) subtitle(nsubs, low int, un unitNames) string {
 	if s.Section.HasBanks {
 		banks = fmt.Sprintf("banks at stations %s and %s %s", fmtNum(s.Section.LeftBank), fmtNum(s.Section.RightBank), un.length)
 	}
-	return fmt.Sprintf("%d surveyed points, %d subsections, %s; thalweg %s %s at station %s",
-		len(pts), nsubs, banks, fmtStage(pts[low].Elevation), un.length, fmtNum(pts[low].Station))
+	return fmt.Sprintf("%s, %s, %s; thalweg %s %s at station %s",
+		rating.Counted(len(pts), "surveyed point", "surveyed points"), rating.Counted(nsubs, "subsection", "subsections"), banks, fmtStage(pts[low].Elevation), un.length, fmtNum(pts[low].Station))
 }
 
 func labelSuffix(l string) string {

@@ -50,8 +50,8 @@ func shiftFigure(c *gauged.ShiftCheck, site, what string) figure {
 	}
 	return figure{
 		title: titleOf(site, "", what),
-		subtitle: fmt.Sprintf("%d of %d gaugings with a measured shift, %d visits; shift = what is added to the gauge height for the rating to pass through the gauging",
-			measured, len(c.Gaugings), len(c.Visits)),
+		subtitle: fmt.Sprintf("%d of %s with a measured shift, %s; shift = what is added to the gauge height for the rating to pass through the gauging",
+			measured, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), rating.Counted(len(c.Visits), "visit", "visits")),
 		foot:      []string{DefaultCaution},
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}

@@ -672,8 +672,8 @@ func standardErrorWords(f *gauged.ControlFit) string {
 	if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
 		return "weighted standard error of estimate " + standardErrorUndefined(f)
 	}
-	return fmt.Sprintf("weighted standard error of estimate %s %% (%s in ln Q, %d degrees of freedom)",
-		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), f.StandardErrorDF)
+	return fmt.Sprintf("weighted standard error of estimate %s %% (%s in ln Q, %s)",
+		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
 }
 
 // standardErrorUndefined says why a fit's standard error of estimate is

@@ -1,11 +1,11 @@
 package results
 
-import "strconv"
+import "wetline/rating"
 
 // counted writes a count with its noun, one for 1 and many otherwise:
 // "1 discharge", "30 discharges".
 func counted(n int, one, many string) string {
-	return strconv.Itoa(n) + " " + agree(n, one, many)
+	return rating.Counted(n, one, many)
 }
 
 // agree returns one when n is 1, many otherwise: the word of a message

@@ -1,0 +1,15 @@
+package rating
+
+import "testing"
+
+// TestCounted: the noun agrees with the count (English grammar).
+func TestCounted(t *testing.T) {
+	for _, tc := range []struct {
+		n    int
+		want string
+	}{{0, "0 profiles"}, {1, "1 profile"}, {2, "2 profiles"}} {
+		if got := Counted(tc.n, "profile", "profiles"); got != tc.want {
+			t.Errorf("Counted(%d) = %q, want %q", tc.n, got, tc.want)
+		}
+	}
+}
