@@ -649,3 +649,33 @@ func TestRecordGaugeStages(t *testing.T) {
 		}
 	}
 }
+
+// TestRecordExcludedGaugings: a gauging left out by its exclude column is
+// marked x in the record's gauging table, listed with its reason and not
+// counted outside its band (it is outside: -13.1 % of a good gauging's
+// 5 % band, in record.txt).
+func TestRecordExcludedGaugings(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	gs := filepath.Join(dir, "gaugings.csv")
+	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality,exclude\n"+
+		"2024-05-01T09:00,0.84,4.10,good,\n2024-05-01T12:00,1.12,7.60,fair,\n2024-05-02T11:00,0.60,1.95,good,meter spin test failed\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := recordArgs()
+	for i, a := range args {
+		if a == recGaugings {
+			args[i] = gs
+		}
+	}
+	out, errs, code := runCLI(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"-13.1x", "0 of 3 gaugings (1 excluded) lie outside their quality bands from the record",
+		"excluded, never counted outside its band: 2024-05-02T11:00:00Z, meter spin test failed"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("record report lacks %q:\n%s", want, out)
+		}
+	}
+}

@@ -513,7 +513,7 @@ func joinInputs(in []string) string {
 func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.ShiftCheck) {
 	L := res.UnitSystem.Length()
 	tol := strconv.FormatFloat(res.StageTolerance, 'g', -1, 64) + " " + L
-	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's band, its uncertainty or else its quality's;"+
+	fmt.Fprintf(bw, "\nGaugings against the record (record = the rating in force with the shift applied; departure = 100·(measured − record)/record; * outside the gauging's band, its uncertainty or else its quality's; x excluded;"+
 		" recorded = the record's stage at the gauging's time, linear between the readings either side, - in a gap not bridged; difference = stage − recorded, ! beyond ±%s):\n", tol)
 	fmt.Fprintf(bw, "  %-25s %8s %10s %-9s %10s %8s %10s %9s %10s\n", "time", "stage", "discharge", "quality", "record", "dep. %", "shift used", "recorded", "difference")
 	out, beyond := 0, 0
@@ -528,17 +528,35 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 			}
 		}
 		line := fmt.Sprintf("  %-25s %8s %10s %-9s %10s %7s%s %10s %9s %9s%s", g.Time.In(res.Zone).Format(RecordTimeLayout), fixed(g.Stage, 3),
-			sig(g.Discharge, 4), g.Quality, sig(g.Shifted, 4), fixed(g.ShiftedDeparture, 1), fitStar(g.OutsideShifted), fixed(g.Applied, 3),
+			sig(g.Discharge, 4), g.Quality, sig(g.Shifted, 4), fixed(g.ShiftedDeparture, 1), excludedStar(g), fixed(g.Applied, 3),
 			fixed(rec, 3), fixed(diff, 3), mark)
 		bw.WriteString(strings.TrimRight(line, " ") + "\n")
 		if g.OutsideShifted {
 			out++
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %s %s outside %s from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"),
+	excluded := ""
+	if n := excludedCount(c); n > 0 {
+		excluded = fmt.Sprintf(" (%d excluded)", n)
+	}
+	fmt.Fprintf(bw, "  %d of %s%s %s outside %s from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"), excluded,
 		agree(out, "lies", "lie"), agree(out, "its quality band", "their quality bands"))
+	for _, g := range c.Gaugings {
+		if g.Excluded {
+			fmt.Fprintf(bw, "  excluded, never counted outside its band: %s, %s%s\n", g.Time.In(res.Zone).Format(RecordTimeLayout), excludeReason(g), sourceNote(g.Source))
+		}
+	}
 	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, counted(len(c.Gaugings), "gauge height", "gauge heights"),
 		agree(beyond, "differs", "differ"), tol)
+}
+
+// excludedStar marks a gauging's departure: x excluded (by its exclude
+// column, never counted outside its band), * outside its band.
+func excludedStar(g gauged.GaugingShift) string {
+	if g.Excluded {
+		return "x"
+	}
+	return fitStar(g.OutsideShifted)
 }
 
 // writeDailyText writes the daily values as aligned columns.

@@ -169,6 +169,9 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 			}
 		}
 		items = append(items, SummaryItem{"gaugings outside their quality bands from the record", fmt.Sprintf("%d of %d", out, len(c.Gaugings)), ""})
+		if n := excludedCount(c); n > 0 {
+			items = append(items, SummaryItem{"gaugings excluded (never counted outside their bands)", n, ""})
+		}
 		beyond := 0
 		for _, s := range res.GaugeStages {
 			if s.Beyond {
