@@ -167,7 +167,7 @@ func writeHistoryText(bw *bufio.Writer, periods []periodInfo, shifts []shiftInfo
 		fmt.Fprintf(bw, "\nShift diagrams: none (no shift is applied to the ratings)\n")
 		return
 	}
-	fmt.Fprintf(bw, "\nShift diagrams (the shift is added to the gauge height; prorated in time between the diagrams of a period unless one starts abruptly; linear in stage between points, constant beyond them):\n")
+	fmt.Fprintf(bw, "\nShift diagrams (the shift is added to the gauge height; a period starts with no shift; prorated in time from its start, or from the diagram before, unless a diagram starts abruptly or the period has no start time; linear in stage between points, constant beyond them):\n")
 	for _, d := range shifts {
 		where := "not used: no rating in force at its time"
 		if d.period >= 0 {
