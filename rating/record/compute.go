@@ -89,10 +89,16 @@ type DailyValue struct {
 	Mean float64
 	// Min and Max are the least and greatest discharges of the day, at
 	// MinTime and MaxTime (the earliest of equal ones; NaN and the zero
-	// time when none): of the unit discharges read in the day and of the
+	// time when none): of the unit discharges read in the day, of the
 	// discharges interpolated at its beginning and end midnights where the
 	// record is bridged across them (a reading at a midnight counts for
-	// both days it bounds).
+	// both days it bounds), and of the two discharges at each rating break
+	// in the day within a bridged interval (a new period or an abrupt
+	// shift diagram: the stage interpolated in time, rated on what is in
+	// force before the break and after it). These are the corners of the
+	// discharge the mean integrates, so no discharge of it lies outside
+	// them; at a break the greatest or least can be a value no reading
+	// holds.
 	Min, Max         float64
 	MinTime, MaxTime time.Time
 	// Coverage is the fraction of the day covered by bridged intervals with
