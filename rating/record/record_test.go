@@ -499,3 +499,32 @@ func TestDailyExtremesAtBreak(t *testing.T) {
 		}
 	}
 }
+
+// TestReadingsOutsideRating: a record whose readings nearly all lie
+// outside the rating table (gauge heights in cm on a rating in m) is
+// warned of with both ranges; one with no discharge at all is refused
+// (ErrNoDischarge), with the same words. Rating 0 to 10 m.
+func TestReadingsOutsideRating(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	_, err := Compute(stages(0, 62, 1, 63, 2, 64.5), r, Options{})
+	if !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "3 of 3 readings with a rating lie outside their rating table: their gauge heights (shifts applied) run from 62 to 64.5 m, the rating table from 0 to 10 m") ||
+		!strings.Contains(err.Error(), "same unit") {
+		t.Errorf("all outside: %v", err)
+	}
+	pairs := []float64{0, 5}
+	for k := 1; k <= 20; k++ {
+		pairs = append(pairs, float64(k), 60+float64(k))
+	}
+	res := compute(t, stages(pairs...), r, Options{MaxGap: 24 * time.Hour})
+	if !hasWarning(res.Warnings, "20 of 21 readings with a rating lie outside", "from 61 to 80 m", "same gauge datum") {
+		t.Errorf("nearly all outside: %q", res.Warnings)
+	}
+	res = compute(t, stages(0, 5, 1, 5, 2, 12), r, Options{})
+	if hasWarning(res.Warnings, "with a rating lie outside") {
+		t.Errorf("one outside of three: %q", res.Warnings)
+	}
+	none := rater(t, gauged.History{Periods: []gauged.Period{{From: time.Unix(at(100), 0), Rating: linear("q=10h", 10)}}})
+	if _, err := Compute(stages(0, 5, 1, 5), none, Options{}); !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "2 of 2 readings have no rating in force") {
+		t.Errorf("no rating: %v", err)
+	}
+}
