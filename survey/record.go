@@ -51,6 +51,37 @@ type StageRecord struct {
 	Site rating.Site
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Times says how the record writes its times.
+	Times TimeForm
+}
+
+// TimeForm says how a file writes its times.
+type TimeForm struct {
+	// Offsets reports times written with a UTC offset of their own
+	// (false for times without one and for workbook date cells).
+	Offsets bool
+	// First is the offset of the first time (east positive): the one
+	// written with it, else the offset times without one are read at.
+	First time.Duration
+}
+
+// OffsetsDiffer returns the warning for a stage record and gaugings of
+// which one writes its times with a UTC offset and the other without, both
+// read without an offset chosen for times written without one (read as
+// UTC); "" when they agree. A clock difference between the two shows as a
+// gauge-height difference at every gauging, which a reader would take for
+// a fault of the gauge or the logger.
+func OffsetsDiffer(sr *StageRecord, gs Gaugings) string {
+	if sr.Times.Offsets == gs.Times.Offsets {
+		return ""
+	}
+	with, without, off := gs.File, sr.File, gs.Times.First
+	if sr.Times.Offsets {
+		with, without, off = sr.File, gs.File, sr.Times.First
+	}
+	return fmt.Sprintf("%s writes its times with a UTC offset (the first %s) and %s without one, read as UTC: "+
+		"if those are local times, give --utc-offset (such as --utc-offset %s); a clock difference between the two files shows as a gauge-height difference at every gauging",
+		with, formatOffset(int64(off/time.Second)), without, formatOffset(int64(off/time.Second)))
 }
 
 // Causes of stage-record errors, for errors.Is.
@@ -299,8 +330,11 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		b.fail(row, b.ct, nil, ErrBlankTime)
 		return
 	}
-	sec, zoned, err := cellTime(ts, b.inWorkbook, b.date1904, b.off)
+	sec, zone, zoned, err := cellTimeZone(ts, b.inWorkbook, b.date1904, b.off)
 	if err == nil {
+		if b.form.row == 0 {
+			b.out.Times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
+		}
 		err = b.form.check(row, zoned)
 	}
 	if err != nil {

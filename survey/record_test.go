@@ -396,3 +396,38 @@ func TestStageRecordClockAhead(t *testing.T) {
 		}
 	}
 }
+
+// TestOffsetsDiffer: a stage record and gaugings of which only one writes
+// its times with a UTC offset are warned of, naming the file read as UTC
+// and the offset to give; two files that agree are not. The readings are
+// invented.
+func TestOffsetsDiffer(t *testing.T) {
+	stage := func(tm string) *StageRecord {
+		sr, err := ParseStageRecord(strings.NewReader("time,stage\n"+tm+",0.6\n"), "stage.csv", StageRecordOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sr
+	}
+	gaugings := func(tm string) Gaugings {
+		gs, err := ParseGaugings(strings.NewReader("time,stage,discharge\n"+tm+",0.6,1.2\n"), "gaugings.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return gs
+	}
+	for _, tc := range []struct {
+		name, stage, gauging, want string
+	}{
+		{"stage without", "2025-02-02T13:00", "2025-02-02T13:00+10:00",
+			"gaugings.csv writes its times with a UTC offset (the first +10:00) and stage.csv without one, read as UTC: if those are local times, give --utc-offset (such as --utc-offset +10:00)"},
+		{"gaugings without", "2025-02-02T13:00-05:00", "2025-02-02T13:00", "stage.csv writes its times with a UTC offset (the first -05:00) and gaugings.csv without one"},
+		{"both with", "2025-02-02T13:00+10:00", "2025-02-02T03:00Z", ""},
+		{"both without", "2025-02-02T13:00", "2025-02-02T13:00", ""},
+	} {
+		got := OffsetsDiffer(stage(tc.stage), gaugings(tc.gauging))
+		if tc.want == "" && got != "" || !strings.Contains(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
