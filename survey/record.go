@@ -79,9 +79,14 @@ func OffsetsDiffer(sr *StageRecord, gs Gaugings) string {
 	if sr.Times.Offsets {
 		with, without, off = sr.File, gs.File, sr.Times.First
 	}
+	first, give := "in UTC", "their offset from UTC, as --utc-offset ±HH:MM"
+	if off != 0 {
+		o := formatOffset(int64(off / time.Second))
+		first, give = o, "--utc-offset (such as --utc-offset "+o+")"
+	}
 	return fmt.Sprintf("%s writes its times with a UTC offset (the first %s) and %s without one, read as UTC: "+
-		"if those are local times, give --utc-offset (such as --utc-offset %s); a clock difference between the two files shows as a gauge-height difference at every gauging",
-		with, formatOffset(int64(off/time.Second)), without, formatOffset(int64(off/time.Second)))
+		"if those are local times, give %s; a clock difference between the two files shows as a gauge-height difference at every gauging",
+		with, first, without, give)
 }
 
 // Causes of stage-record errors, for errors.Is.

@@ -422,6 +422,8 @@ func TestOffsetsDiffer(t *testing.T) {
 		{"stage without", "2025-02-02T13:00", "2025-02-02T13:00+10:00",
 			"gaugings.csv writes its times with a UTC offset (the first +10:00) and stage.csv without one, read as UTC: if those are local times, give --utc-offset (such as --utc-offset +10:00)"},
 		{"gaugings without", "2025-02-02T13:00-05:00", "2025-02-02T13:00", "stage.csv writes its times with a UTC offset (the first -05:00) and gaugings.csv without one"},
+		{"gaugings without, stage in UTC", "2025-02-02T13:00Z", "2025-02-02T13:00",
+			"stage.csv writes its times with a UTC offset (the first in UTC) and gaugings.csv without one, read as UTC: if those are local times, give their offset from UTC, as --utc-offset ±HH:MM"},
 		{"both with", "2025-02-02T13:00+10:00", "2025-02-02T03:00Z", ""},
 		{"both without", "2025-02-02T13:00", "2025-02-02T13:00", ""},
 	} {
