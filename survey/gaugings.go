@@ -50,6 +50,8 @@ type Gaugings struct {
 	Units UnitNote
 	// Site is the site metadata read above the table.
 	Site rating.Site
+	// Times says how the table writes its times.
+	Times TimeForm
 }
 
 // Causes of gauging errors, for errors.Is.
@@ -128,6 +130,7 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if len(rd.errs) > 0 {
 		return gs, rd.errs.err()
 	}
+	gs.Times = rd.times
 	if len(gs.Gaugings) == 0 {
 		return gs, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
@@ -242,6 +245,8 @@ type gaugingReader struct {
 	off int64
 	// form is the form of the table's first time.
 	form offsetForm
+	// times is the form of the table's first time, as Gaugings.Times.
+	times TimeForm
 	// seen holds the row of every time read, by its instant (Unix
 	// seconds): offsets count, so 10:00+10:00 and 00:00Z are one time.
 	seen map[int64]int
@@ -291,6 +296,9 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 	}
 	sec, zone, zoned, err := cellTimeZone(s, t.Sheet != "", t.Date1904, rd.off)
 	if err == nil {
+		if rd.form.row == 0 {
+			rd.times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
+		}
 		err = rd.form.check(rec.Row, zoned)
 	}
 	if err != nil {

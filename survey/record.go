@@ -51,6 +51,42 @@ type StageRecord struct {
 	Site rating.Site
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Times says how the record writes its times.
+	Times TimeForm
+}
+
+// TimeForm says how a file writes its times.
+type TimeForm struct {
+	// Offsets reports times written with a UTC offset of their own
+	// (false for times without one and for workbook date cells).
+	Offsets bool
+	// First is the offset of the first time (east positive): the one
+	// written with it, else the offset times without one are read at.
+	First time.Duration
+}
+
+// OffsetsDiffer returns the warning for a stage record and gaugings of
+// which one writes its times with a UTC offset and the other without, both
+// read without an offset chosen for times written without one (read as
+// UTC); "" when they agree. A clock difference between the two shows as a
+// gauge-height difference at every gauging, which a reader would take for
+// a fault of the gauge or the logger.
+func OffsetsDiffer(sr *StageRecord, gs Gaugings) string {
+	if sr.Times.Offsets == gs.Times.Offsets {
+		return ""
+	}
+	with, without, off := gs.File, sr.File, gs.Times.First
+	if sr.Times.Offsets {
+		with, without, off = sr.File, gs.File, sr.Times.First
+	}
+	first, give := "in UTC", "their offset from UTC, as --utc-offset ±HH:MM"
+	if off != 0 {
+		o := formatOffset(int64(off / time.Second))
+		first, give = o, "--utc-offset (such as --utc-offset "+o+")"
+	}
+	return fmt.Sprintf("%s writes its times with a UTC offset (the first %s) and %s without one, read as UTC: "+
+		"if those are local times, give %s; a clock difference between the two files shows as a gauge-height difference at every gauging",
+		with, first, without, give)
 }
 
 // Causes of stage-record errors, for errors.Is.
@@ -97,7 +133,9 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
 // it. A row with a time and a blank stage is a missing reading: it is
-// left out and counted in Blank.
+// left out and counted in Blank. Times written without an offset that jump
+// ahead one hour more than the record's interval, as a clock set forward
+// for daylight saving does, are warned of (see clockAhead).
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
 }
@@ -223,6 +261,7 @@ type stageBuilder struct {
 	lastSec              int64 // time of the last row with a usable time
 	lastRow              int   // its row; 0 before the first
 	form                 offsetForm
+	ahead                clockAhead
 	errs                 cappedErrors
 	rows, maxRows        int // data rows read; the limit (Limits.Readings)
 }
@@ -306,8 +345,11 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		b.fail(row, b.ct, nil, ErrBlankTime)
 		return
 	}
-	sec, zoned, err := cellTime(ts, b.inWorkbook, b.date1904, b.off)
+	sec, zone, zoned, err := cellTimeZone(ts, b.inWorkbook, b.date1904, b.off)
 	if err == nil {
+		if b.form.row == 0 {
+			b.out.Times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
+		}
 		err = b.form.check(row, zoned)
 	}
 	if err != nil {
@@ -328,6 +370,9 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 				formatUnixAt(sec, b.off), formatUnixAt(b.lastSec, b.off), b.lastRow, hint))
 		}
 		return
+	}
+	if b.lastRow > 0 && !zoned {
+		b.ahead.take(b.lastSec, sec, row)
 	}
 	b.lastSec, b.lastRow = sec, row
 	st := &b.out.Stages
@@ -383,7 +428,70 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 	if n := b.out.Blank; n > 0 {
 		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %d row(s) with a time but no stage, read as missing readings", b.file, n))
 	}
+	if w := b.ahead.warning(b.file, b.off); w != "" {
+		b.out.Warnings = append(b.out.Warnings, w)
+	}
 	return b.out, nil
+}
+
+// clockAhead finds the places where the times of a regular record written
+// without a UTC offset jump ahead by exactly one hour more than the
+// interval before and after the jump (the interval d, one hour at most,
+// then d + 1 h, then d again): the hour a clock set forward for daylight
+// saving skips, the mirror of the repeated times of a clock set back (an
+// error, with its hint). A fixed offset does not follow the change, so
+// the readings after it are read an hour off and the skipped hour is
+// bridged as if read. The times of every row with a time count, a blank
+// stage's too.
+type clockAhead struct {
+	prev     int64 // the interval ending at the last time; 0 before two
+	pending  int64 // d of a jump just seen, awaiting the interval after it
+	pendFrom int64 // the jump's times and row
+	pendTo   int64
+	pendRow  int
+	count    int   // jumps found
+	from, to int64 // the first jump's times
+	row      int   // and the row after it
+}
+
+// take counts the interval from time t0 to time t1 at row.
+func (c *clockAhead) take(t0, t1 int64, row int) {
+	gap := t1 - t0
+	if c.pending > 0 && gap == c.pending {
+		if c.count++; c.count == 1 {
+			c.from, c.to, c.row = c.pendFrom, c.pendTo, c.pendRow
+		}
+	}
+	c.pending = 0
+	if c.prev > 0 && c.prev <= 3600 && gap == c.prev+3600 {
+		c.pending, c.pendFrom, c.pendTo, c.pendRow = c.prev, t0, t1, row
+	}
+	c.prev = gap
+}
+
+// warning words the jumps found in file, read at an offset of off
+// seconds; "" when none.
+func (c *clockAhead) warning(file string, off int64) string {
+	if c.count == 0 {
+		return ""
+	}
+	read := "as UTC"
+	if off != 0 {
+		read = "at the one offset " + formatOffset(off)
+	}
+	return fmt.Sprintf("%s: %d place(s) where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
+		"(the first from %s to %s, row %d): most likely a clock set forward for daylight saving, which a fixed offset does not follow, "+
+		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset",
+		file, c.count, read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
+}
+
+// formatOffset writes an offset of off seconds east as ±HH:MM.
+func formatOffset(off int64) string {
+	sign := "+"
+	if off < 0 {
+		sign, off = "-", -off
+	}
+	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
 }
 
 // cappedErrors keeps the first MaxReported parse errors and counts the

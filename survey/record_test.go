@@ -354,3 +354,82 @@ func TestStageRecordSite(t *testing.T) {
 		t.Errorf("workbook site %+v, want %+v", r.Site, want)
 	}
 }
+
+// TestStageRecordClockAhead: local times without offsets that skip the
+// hour a clock set forward for daylight saving skips (15-minute readings
+// 01:45 then 03:00) are warned of, as the repeated hour of a clock set
+// back is refused; an outage of another length, a jump with an irregular
+// interval after it, and times written with offsets are not. The dates are
+// invented.
+func TestStageRecordClockAhead(t *testing.T) {
+	rows := func(times ...string) string {
+		var b strings.Builder
+		b.WriteString("time,stage\n")
+		for _, tm := range times {
+			b.WriteString(tm + ",0.6\n")
+		}
+		return b.String()
+	}
+	spring := rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T03:00", "2025-10-05T03:15", "2025-10-05T03:30")
+	for _, tc := range []struct {
+		name string
+		csv  string
+		off  time.Duration
+		want string // "" for no warning
+	}{
+		{"spring hour at +10:00", spring, 10 * time.Hour,
+			"1 place(s) where the times, written without a UTC offset and read at the one offset +10:00, jump ahead one hour more than the record's interval (the first from 2025-10-05T01:45:00+10:00 to 2025-10-05T03:00:00+10:00, row 5)"},
+		{"spring hour read as UTC", spring, 0, "read as UTC, jump ahead"},
+		{"hourly record", rows("2025-10-05T00:00", "2025-10-05T01:00", "2025-10-05T03:00", "2025-10-05T04:00"), 0, "jump ahead"},
+		{"two-hour outage", rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T04:00", "2025-10-05T04:15"), 10 * time.Hour, ""},
+		{"irregular after", rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T03:00", "2025-10-05T03:05"), 10 * time.Hour, ""},
+		{"times with offsets", rows("2025-10-05T01:15+10:00", "2025-10-05T01:30+10:00", "2025-10-05T01:45+10:00", "2025-10-05T03:00+11:00",
+			"2025-10-05T03:15+11:00", "2025-10-05T03:30+11:00"), 0, ""},
+	} {
+		sr, err := ParseStageRecord(strings.NewReader(tc.csv), "s.csv", StageRecordOptions{UTCOffset: tc.off})
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		got := strings.Join(sr.Warnings, "\n")
+		if tc.want == "" && strings.Contains(got, "jump ahead") || tc.want != "" && !strings.Contains(got, tc.want) {
+			t.Errorf("%s: warnings %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
+
+// TestOffsetsDiffer: a stage record and gaugings of which only one writes
+// its times with a UTC offset are warned of, naming the file read as UTC
+// and the offset to give; two files that agree are not. The readings are
+// invented.
+func TestOffsetsDiffer(t *testing.T) {
+	stage := func(tm string) *StageRecord {
+		sr, err := ParseStageRecord(strings.NewReader("time,stage\n"+tm+",0.6\n"), "stage.csv", StageRecordOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return sr
+	}
+	gaugings := func(tm string) Gaugings {
+		gs, err := ParseGaugings(strings.NewReader("time,stage,discharge\n"+tm+",0.6,1.2\n"), "gaugings.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		return gs
+	}
+	for _, tc := range []struct {
+		name, stage, gauging, want string
+	}{
+		{"stage without", "2025-02-02T13:00", "2025-02-02T13:00+10:00",
+			"gaugings.csv writes its times with a UTC offset (the first +10:00) and stage.csv without one, read as UTC: if those are local times, give --utc-offset (such as --utc-offset +10:00)"},
+		{"gaugings without", "2025-02-02T13:00-05:00", "2025-02-02T13:00", "stage.csv writes its times with a UTC offset (the first -05:00) and gaugings.csv without one"},
+		{"gaugings without, stage in UTC", "2025-02-02T13:00Z", "2025-02-02T13:00",
+			"stage.csv writes its times with a UTC offset (the first in UTC) and gaugings.csv without one, read as UTC: if those are local times, give their offset from UTC, as --utc-offset ±HH:MM"},
+		{"both with", "2025-02-02T13:00+10:00", "2025-02-02T03:00Z", ""},
+		{"both without", "2025-02-02T13:00", "2025-02-02T13:00", ""},
+	} {
+		got := OffsetsDiffer(stage(tc.stage), gaugings(tc.gauging))
+		if tc.want == "" && got != "" || !strings.Contains(got, tc.want) {
+			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}

@@ -488,6 +488,9 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)
 		warnings = append(warnings, gs.Warnings...)
+		if w := survey.OffsetsDiffer(sr, gs); w != "" && !fs.Changed("utc-offset") {
+			warnings = append(warnings, w)
+		}
 	}
 	opt.UnitSystem = f.unitSystem
 	res, err := record.Compute(st, r, opt)

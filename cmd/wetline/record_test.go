@@ -679,3 +679,27 @@ func TestRecordExcludedGaugings(t *testing.T) {
 		}
 	}
 }
+
+// TestRecordOffsetsDiffer: gaugings whose times carry a UTC offset beside
+// a stage record whose times carry none are warned of, unless
+// --utc-offset says how to read the record. The gauging is invented.
+func TestRecordOffsetsDiffer(t *testing.T) {
+	t.Parallel()
+	g := filepath.Join(t.TempDir(), "gaugings.csv")
+	if err := os.WriteFile(g, []byte("time,stage,discharge,quality\n2024-05-01T16:00+10:00,0.60,1.95,good\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		extra []string
+		warn  bool
+	}{{nil, true}, {[]string{"--utc-offset", "+10:00"}, false}} {
+		args := append([]string{"record", recStages, "--rating", recRatingA, "--gaugings", g}, tc.extra...)
+		out, errs, code := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", tc.extra, code, errs)
+		}
+		if got := strings.Contains(out+errs, "writes its times with a UTC offset (the first +10:00) and "+recStages+" without one, read as UTC"); got != tc.warn {
+			t.Errorf("%v: warned %v, want %v: %s", tc.extra, got, tc.warn, errs)
+		}
+	}
+}

@@ -3,6 +3,7 @@ package record
 import (
 	"errors"
 	"fmt"
+	"math"
 	"strings"
 	"time"
 
@@ -54,7 +55,16 @@ const MaxUTCOffset = 14 * time.Hour
 var (
 	ErrMaxGap    = errors.New("the maximum gap must be a positive whole number of seconds")
 	ErrUTCOffset = errors.New("the UTC offset must be a whole number of seconds within 14 hours of UTC")
+	// ErrNoDischarge: no reading of the record has a discharge (every
+	// one outside its rating table, or without a rating in force).
+	ErrNoDischarge = errors.New("no reading of the stage record has a discharge")
 )
+
+// MostlyOutside is the share of the rated readings outside their rating
+// table from which the record is warned of as being perhaps in another
+// unit or on another datum than the rating (a project choice: a rating
+// misses a few flood peaks, not nineteen readings in twenty).
+const MostlyOutside = 0.95
 
 // UnitValue is one reading of the record turned into a discharge.
 type UnitValue struct {
@@ -89,10 +99,16 @@ type DailyValue struct {
 	Mean float64
 	// Min and Max are the least and greatest discharges of the day, at
 	// MinTime and MaxTime (the earliest of equal ones; NaN and the zero
-	// time when none): of the unit discharges read in the day and of the
+	// time when none): of the unit discharges read in the day, of the
 	// discharges interpolated at its beginning and end midnights where the
 	// record is bridged across them (a reading at a midnight counts for
-	// both days it bounds).
+	// both days it bounds), and of the two discharges at each rating break
+	// in the day within a bridged interval (a new period or an abrupt
+	// shift diagram: the stage interpolated in time, rated on what is in
+	// force before the break and after it). These are the corners of the
+	// discharge the mean integrates, so no discharge of it lies outside
+	// them; at a break the greatest or least can be a value no reading
+	// holds.
 	Min, Max         float64
 	MinTime, MaxTime time.Time
 	// Coverage is the fraction of the day covered by bridged intervals with
@@ -201,8 +217,15 @@ type Result struct {
 // the gauging's time and source, both stages and the difference. Gaugings
 // outside the span are left out and counted in one warning.
 //
-// Errors are a *StagesError for an unusable record and ErrMaxGap,
-// ErrUTCOffset or ErrStageTolerance for unusable options.
+// When at least MostlyOutside of the readings with a rating lie outside
+// their rating table, a warning says so with the range of their effective
+// gauge heights and of the tables, and asks whether the stage record and
+// the rating are in one unit and on one gauge datum.
+//
+// Errors are a *StagesError for an unusable record, ErrNoDischarge when no
+// reading has a discharge (a record without one is no record; the error
+// says why, as the warning above does), and ErrMaxGap, ErrUTCOffset or
+// ErrStageTolerance for unusable options.
 //
 // References:
 //
@@ -234,9 +257,13 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	}
 	c := newCounter(res, st, off)
 	res.unitValues(r, maxGap, c)
+	res.Warnings = append(res.Warnings, datumSteps(st, res.Units, maxGap, tol, res.Zone, opt.UnitSystem)...)
 	c.integrate(st, r, maxGap)
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)
+	if err := res.withinRatings(r); err != nil {
+		return nil, err
+	}
 	if len(opt.Gaugings) > 0 {
 		if err := res.checkGaugings(r, opt.Gaugings, tol); err != nil {
 			return nil, err
@@ -496,4 +523,45 @@ func floorDiv(a, b int64) int64 {
 		q--
 	}
 	return q
+}
+
+// withinRatings warns when nearly every reading with a rating lies outside
+// its rating table (see MostlyOutside), and returns ErrNoDischarge, with
+// the same words, when no reading has a discharge at all.
+func (res *Result) withinRatings(r *gauged.Rater) error {
+	rated, outside, some := 0, 0, false
+	lo, hi := math.Inf(1), math.Inf(-1)   // the outside readings' effective gauge heights
+	tlo, thi := math.Inf(1), math.Inf(-1) // the tables of their periods
+	for _, u := range res.Units {
+		some = some || !math.IsNaN(u.Discharge)
+		rt := r.Rating(int(u.Period))
+		if rt == nil || u.Flags&NoRating != 0 {
+			continue
+		}
+		rated++
+		if u.Flags&(OutsideRating|Extrapolated) == 0 {
+			continue
+		}
+		outside++
+		lo, hi = min(lo, u.Effective), max(hi, u.Effective)
+		a, b := rt.Range()
+		tlo, thi = min(tlo, a), max(thi, b)
+	}
+	why := ""
+	if rated > 0 && float64(outside) >= MostlyOutside*float64(rated) {
+		L := res.UnitSystem.Length()
+		why = fmt.Sprintf("%d of %d readings with a rating lie outside their rating table: their gauge heights (shifts applied) run from %s to %s %s, "+
+			"the rating table from %s to %s %s. Are the stage record and the rating in the same unit (m, cm, ft) and on the same gauge datum?",
+			outside, rated, stageText(lo), stageText(hi), L, stageText(tlo), stageText(thi), L)
+	}
+	if some {
+		if why != "" {
+			res.Warnings = append(res.Warnings, why)
+		}
+		return nil
+	}
+	if why == "" {
+		why = fmt.Sprintf("%d of %d readings have no rating in force: give a rating for the record's time", len(res.Units)-rated, len(res.Units))
+	}
+	return fmt.Errorf("%w: %s", ErrNoDischarge, why)
 }

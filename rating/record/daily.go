@@ -99,17 +99,17 @@ func (c *counter) integrate(st *Stages, r *gauged.Rater, maxGap int64) {
 			continue
 		}
 		h0, h1 := st.Stage[i-1], st.Stage[i]
-		ta, qa := t0, c.units[i-1].Discharge
+		ta, qa, node := t0, c.units[i-1].Discharge, false
 		for ; k < len(breaks) && breaks[k] <= t1; k++ {
 			b := breaks[k]
 			hb := h0 + (h1-h0)*float64(b-t0)/float64(t1-t0)
-			c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge)
-			ta, qa = b, c.units[i].Discharge
+			c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge, node, true)
+			ta, qa, node = b, c.units[i].Discharge, false
 			if b < t1 {
-				qa = r.AtUnix(b, hb, false).Discharge
+				qa, node = r.AtUnix(b, hb, false).Discharge, true
 			}
 		}
-		c.segment(ta, qa, t1, c.units[i].Discharge)
+		c.segment(ta, qa, t1, c.units[i].Discharge, node, false)
 	}
 }
 
@@ -128,8 +128,13 @@ func (c *counter) gap(t0, t1 int64) {
 // covers, split at midnights with the discharge linear in time. A segment
 // with no discharge at an end covers nothing. The discharge at a midnight
 // the segment reaches counts into the least and greatest of the day it
-// ends and of the day it begins, at the midnight's time.
-func (c *counter) segment(ta int64, qa float64, tb int64, qb float64) {
+// ends and of the day it begins, at the midnight's time. An end that is a
+// side of a rating break (fromBreak for its start, toBreak for its end:
+// the discharge at the break on the rating and shifts in force after it,
+// or before it) counts into the least and greatest of its day too, at the
+// break's time, as the unit values do: the daily extremes are those of the
+// discharge the mean integrates. A reading's end is counted by reading.
+func (c *counter) segment(ta int64, qa float64, tb int64, qb float64, fromBreak, toBreak bool) {
 	if tb <= ta || math.IsNaN(qa) || math.IsNaN(qb) {
 		return
 	}
@@ -145,10 +150,10 @@ func (c *counter) segment(ta int64, qa float64, tb int64, qb float64) {
 		day := &c.days[d]
 		day.area += 0.5 * (qs + qe) * float64(e-s)
 		day.covered += e - s
-		if s == begin {
+		if s == begin || s == ta && fromBreak {
 			day.extreme(s, qs)
 		}
-		if e == end {
+		if e == end || e == tb && toBreak {
 			day.extreme(e, qe)
 		}
 		s, qs = e, qe

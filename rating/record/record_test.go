@@ -484,3 +484,72 @@ func TestCountWords(t *testing.T) {
 		})
 	}
 }
+
+// TestDailyExtremesAtBreak: the two sides of an abrupt shift break between
+// readings are discharges of the record (the mean integrates them), so
+// they count into the day's least and greatest. Rating Q = 10·h; diagram
+// at 00:00 constant 0, abrupt diagram at 06:00 constant s; readings every
+// 8 h, a maximum gap of 8 h. By hand:
+//
+//	rising, s = −1: 00:00 h=1 Q=10; 08:00 h=3 Q=20; 16:00 and 24:00 Q=20.
+//	  At 06:00 h = 1 + 2·6/8 = 2.5: Q = 25 before the break, 15 after.
+//	  Greatest 25 at 06:00 (the readings' greatest is 20), least 10 at
+//	  00:00; mean (½(10+25)·6 + ½(15+20)·2 + 20·16)/24 = 460/24.
+//	falling, s = +1: 00:00 h=3 Q=30; 08:00 h=1 Q=20; 16:00 and 24:00 Q=20.
+//	  At 06:00 h = 1.5: Q = 15 before, 25 after. Least 15 at 06:00 (the
+//	  readings' least is 20), greatest 30 at 00:00; mean
+//	  (½(30+15)·6 + ½(25+20)·2 + 20·16)/24 = 500/24.
+func TestDailyExtremesAtBreak(t *testing.T) {
+	for _, tc := range []struct {
+		name                   string
+		st                     *Stages
+		shift                  float64
+		min, max               float64
+		minAt, maxAt, meanArea float64
+	}{
+		{"rising, break lowers", stages(0, 1, 8, 3, 16, 3, 24, 3), -1, 10, 25, 0, 6, 460},
+		{"falling, break raises", stages(0, 3, 8, 1, 16, 1, 24, 1), 1, 15, 30, 6, 0, 500},
+	} {
+		h := gauged.History{
+			Periods: []gauged.Period{{Rating: linear("q=10h", 10)}},
+			Shifts: []gauged.ShiftDiagram{
+				{Time: time.Unix(at(0), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0}}},
+				{Time: time.Unix(at(6), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: tc.shift}}, Abrupt: true},
+			},
+		}
+		d := compute(t, tc.st, rater(t, h), Options{MaxGap: 8 * time.Hour}).Daily[0]
+		if math.Abs(d.Min-tc.min) > meanTol || math.Abs(d.Max-tc.max) > meanTol || d.MinTime.Unix() != at(tc.minAt) || d.MaxTime.Unix() != at(tc.maxAt) ||
+			math.Abs(d.Mean-tc.meanArea/24) > meanTol {
+			t.Errorf("%s: min %v at %v, max %v at %v, mean %v; want %+v", tc.name, d.Min, d.MinTime, d.Max, d.MaxTime, d.Mean, tc)
+		}
+	}
+}
+
+// TestReadingsOutsideRating: a record whose readings nearly all lie
+// outside the rating table (gauge heights in cm on a rating in m) is
+// warned of with both ranges; one with no discharge at all is refused
+// (ErrNoDischarge), with the same words. Rating 0 to 10 m.
+func TestReadingsOutsideRating(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	_, err := Compute(stages(0, 62, 1, 63, 2, 64.5), r, Options{})
+	if !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "3 of 3 readings with a rating lie outside their rating table: their gauge heights (shifts applied) run from 62 to 64.5 m, the rating table from 0 to 10 m") ||
+		!strings.Contains(err.Error(), "same unit") {
+		t.Errorf("all outside: %v", err)
+	}
+	pairs := []float64{0, 5}
+	for k := 1; k <= 20; k++ {
+		pairs = append(pairs, float64(k), 60+float64(k))
+	}
+	res := compute(t, stages(pairs...), r, Options{MaxGap: 24 * time.Hour})
+	if !hasWarning(res.Warnings, "20 of 21 readings with a rating lie outside", "from 61 to 80 m", "same gauge datum") {
+		t.Errorf("nearly all outside: %q", res.Warnings)
+	}
+	res = compute(t, stages(0, 5, 1, 5, 2, 12), r, Options{})
+	if hasWarning(res.Warnings, "with a rating lie outside") {
+		t.Errorf("one outside of three: %q", res.Warnings)
+	}
+	none := rater(t, gauged.History{Periods: []gauged.Period{{From: time.Unix(at(100), 0), Rating: linear("q=10h", 10)}}})
+	if _, err := Compute(stages(0, 5, 1, 5), none, Options{}); !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "2 of 2 readings have no rating in force") {
+		t.Errorf("no rating: %v", err)
+	}
+}
