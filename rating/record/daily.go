@@ -103,7 +103,7 @@ func (c *counter) integrate(st *Stages, r *gauged.Rater, maxGap int64) {
 		for ; k < len(breaks) && breaks[k] <= t1; k++ {
 			b := breaks[k]
 			hb := h0 + (h1-h0)*float64(b-t0)/float64(t1-t0)
-			c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge, node, true)
+			c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge, node, b < t1) // on a reading, the reading stands for the break
 			ta, qa, node = b, c.units[i].Discharge, false
 			if b < t1 {
 				qa, node = r.AtUnix(b, hb, false).Discharge, true
@@ -133,7 +133,10 @@ func (c *counter) gap(t0, t1 int64) {
 // the discharge at the break on the rating and shifts in force after it,
 // or before it) counts into the least and greatest of its day too, at the
 // break's time, as the unit values do: the daily extremes are those of the
-// discharge the mean integrates. A reading's end is counted by reading.
+// discharge the mean integrates. A reading's end is counted by reading;
+// a break that falls on a reading is that reading's unit value alone (the
+// side before it is no unit value, and a daily extreme there would be one
+// the record's table does not show).
 func (c *counter) segment(ta int64, qa float64, tb int64, qb float64, fromBreak, toBreak bool) {
 	if tb <= ta || math.IsNaN(qa) || math.IsNaN(qb) {
 		return

@@ -509,6 +509,10 @@ func TestDailyExtremesAtBreak(t *testing.T) {
 	}{
 		{"rising, break lowers", stages(0, 1, 8, 3, 16, 3, 24, 3), -1, 10, 25, 0, 6, 460},
 		{"falling, break raises", stages(0, 3, 8, 1, 16, 1, 24, 1), 1, 15, 30, 6, 0, 500},
+		// On a reading the reading stands for the break: 06:00 h=3 gives
+		// Q = 20 with the new shift (the old side, 30, is no unit value);
+		// mean (½(10+30)·6 + 20·18)/24 = 480/24.
+		{"break on a reading", stages(0, 1, 6, 3, 12, 3, 18, 3, 24, 3), -1, 10, 20, 0, 6, 480},
 	} {
 		h := gauged.History{
 			Periods: []gauged.Period{{Rating: linear("q=10h", 10)}},
