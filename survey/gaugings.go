@@ -341,9 +341,12 @@ func (rd *gaugingReader) uncertainty(rec Record, g *gauged.Gauging) {
 }
 
 // KeepWords returns the words of the exclude column that keep a gauging
-// (as a blank cell does), matched case-insensitively: a spreadsheet makes
+// (as a blank cell does), matched case-insensitively: a crew writes keep or
+// include where it means the gauging stays in, and a spreadsheet makes
 // FALSE typed in a cell a boolean, which reads FALSE.
-func KeepWords() []string { return []string{"no", "n", "false", "0", "none"} }
+func KeepWords() []string {
+	return []string{"no", "n", "false", "0", "none", "keep", "kept", "include", "included", "use"}
+}
 
 // excludeReason is the reason an exclude cell gives for leaving a
 // gauging out, "" to keep it: a blank cell, or one of KeepWords, keeps
