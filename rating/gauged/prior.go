@@ -129,7 +129,8 @@ var ErrPrior = errors.New("no prior from this section")
 // HydraulicPrior returns the prior of a channel control from the section's
 // own hydraulic rating c over gauge heights from..to. The power law
 // Q = a₀·(h − b)^c is fitted in ln Q to the hydraulic discharge (of
-// opt.Part) at priorCurvePoints stages; multiplying every n by a factor f
+// opt.Part) at priorCurvePoints stages, the offset b no lower than the
+// section's lowest point (fitPointsAbove); multiplying every n by a factor f
 // divides the conveyance by f, and Q ∝ √S, so with ln f and ln(S/S₀)
 // normal about 0 the coefficient is exactly log-normal:
 //
@@ -290,7 +291,7 @@ const bisectLogTol = 1e-10
 
 // fitCurve fits ln Q = ln a + c·ln(h − b) to a curve sampled at
 // priorCurvePoints stages evenly over (from, to] (see fitPoints).
-func fitCurve(q func(float64) (float64, error), from, to float64, bFixed bool, b0 float64) (lnA, c, b float64, err error) {
+func fitCurve(q func(float64) (float64, error), from, to float64, bFixed bool, b0, bLow float64) (lnA, c, b float64, err error) {
 	var h, y []float64
 	for i := 1; i <= priorCurvePoints; i++ {
 		s := from + (to-from)*float64(i)/priorCurvePoints
@@ -302,7 +303,26 @@ func fitCurve(q func(float64) (float64, error), from, to float64, bFixed bool, b
 			h, y = append(h, s), append(y, math.Log(v))
 		}
 	}
+	if !bFixed {
+		return fitPointsAbove(h, y, bLow)
+	}
 	return fitPoints(h, y, bFixed, b0)
+}
+
+// fitPointsAbove is fitPoints with the offset fitted but kept at or above
+// bLow (the section's lowest point: a channel's flow cannot cease below
+// its bed; NaN for no bound). Over a range far above the bed, an
+// unbounded fit can trade the offset against the exponent without limit
+// (a trial: Q = 0.0000000039·(h + 6.9)^10.3 for an overbank control from
+// 2 to 4.8 m), a curve that fits the points and means nothing as a prior;
+// held at the bed, the offset gives the exponent of the section's own
+// shape there.
+func fitPointsAbove(h, y []float64, bLow float64) (lnA, c, b float64, err error) {
+	lnA, c, b, err = fitPoints(h, y, false, 0)
+	if err != nil || math.IsNaN(bLow) || b >= bLow || len(h) == 0 || !(h[0] > bLow) {
+		return lnA, c, b, err
+	}
+	return fitPoints(h, y, true, bLow)
 }
 
 // fitPoints fits ln Q = ln a + c·ln(h − b) to points (h ascending, y =

@@ -196,7 +196,7 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 	if !(ncv >= 0) || !(scv >= 0) || !(to > from) {
 		return ControlPrior{}, errorf("%w: range %g to %g, n cv %g, slope cv %g", ErrPrior, from, to, ncv, scv)
 	}
-	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset)
+	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset, bottom)
 	if err != nil {
 		return ControlPrior{}, err
 	}
