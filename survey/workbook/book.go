@@ -10,6 +10,7 @@ import (
 	"io"
 	"math"
 	"strings"
+	"time"
 
 	"github.com/xuri/excelize/v2"
 )
@@ -636,9 +637,21 @@ func (b *Book) Write(w io.Writer) error {
 	}
 	// excelize zips into an in-memory buffer and copies it to w; handing
 	// it a zip writer on w instead leaves that buffer empty.
-	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return zip.NewWriter(w) })
+	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return datedZip{zip.NewWriter(w)} })
 	_, err := b.f.WriteTo(w)
 	return err
+}
+
+// datedZip is a zip writer whose entries all carry one modification
+// time, 1980-01-01 00:00 UTC: the earliest an MS-DOS zip date can hold,
+// so that no part carries the time of the run. Without one, the zip
+// writer stores the date 1980-00-00, which is no date and which archive
+// checkers report.
+type datedZip struct{ *zip.Writer }
+
+// Create adds a deflated entry dated 1980-01-01 00:00 UTC.
+func (z datedZip) Create(name string) (io.Writer, error) {
+	return z.CreateHeader(&zip.FileHeader{Name: name, Method: zip.Deflate, Modified: time.Date(1980, time.January, 1, 0, 0, 0, 0, time.UTC)})
 }
 
 // Sig3 returns v styled to show three significant figures (see
