@@ -482,8 +482,9 @@ type ProjectionReport struct {
 	Survey Survey
 	// Units is the unit system of the survey's lengths.
 	Units rating.Units
-	// Warnings are the survey's (each point far off the line), and last
-	// how it was projected (Survey.ProjectionNote).
+	// Warnings are the survey's (each point far off the line). How it was
+	// projected is not a warning: Provenance.Notes holds it
+	// (Survey.ProjectionNote as a line with its position).
 	Warnings []string
 	// Figures are the pictures of the report (a plan of the points and the
 	// line), drawn by the caller.
@@ -512,7 +513,7 @@ func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (Projectio
 		return ProjectionReport{}, err
 	}
 	return ProjectionReport{
-		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site},
-		Survey:     sv, Units: units, Warnings: append(append([]string(nil), sv.Warnings...), sv.ProjectionNote.String()),
+		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: []string{sv.ProjectionNote.String()}},
+		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
 	}, nil
 }
