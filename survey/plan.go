@@ -92,3 +92,52 @@ func ResurveyWarning(a, b PlanLine, nameA, nameB string, u rating.Units) string 
 	return fmt.Sprintf("the section lines of %s and %s lie %.3g %s apart by their eastings and northings, more than the %g %s a resurvey of one section would (common practice): check they are surveys of one section, in one coordinate system",
 		nameA, nameB, d, u.Length(), limit, u.Length())
 }
+
+// OppositeLines warns of each section of a reach whose line, taken from
+// left to right looking downstream, points against the others' (their
+// directions' resultant), as a section shot from the other bank with
+// bank marks naming no side would, its overbanks swapped. svs are the
+// reach's surveys and names their sections, aligned; only the surveys
+// of eastings and northings (Projection known) are judged, and at least
+// two are needed. With two that point against each other, both are
+// named. A line more than 90° off the others' counts as opposite.
+func OppositeLines(svs []Survey, names []string) []string {
+	var idx []int
+	for i, sv := range svs {
+		if sv.Projection.Line != "" {
+			idx = append(idx, i)
+		}
+	}
+	if len(idx) < 2 {
+		return nil
+	}
+	dir := func(i int) (float64, float64) {
+		th := svs[i].Projection.Azimuth * math.Pi / 180
+		return math.Sin(th), math.Cos(th)
+	}
+	if len(idx) == 2 {
+		ax, ay := dir(idx[0])
+		bx, by := dir(idx[1])
+		if ax*bx+ay*by < 0 {
+			return []string{fmt.Sprintf("sections %s and %s: their lines, left to right looking downstream, point opposite ways (grid azimuth %.1f and %.1f degrees): one has its banks swapped; mark its bank sides (ltob, rtob), its pins, or give the flow direction",
+				names[idx[0]], names[idx[1]], svs[idx[0]].Projection.Azimuth, svs[idx[1]].Projection.Azimuth)}
+		}
+		return nil
+	}
+	var out []string
+	for _, i := range idx {
+		var sx, sy float64
+		for _, j := range idx {
+			if j != i {
+				x, y := dir(j)
+				sx, sy = sx+x, sy+y
+			}
+		}
+		x, y := dir(i)
+		if x*sx+y*sy < 0 {
+			out = append(out, fmt.Sprintf("section %s: its line, left to right looking downstream, points opposite to the other sections' (grid azimuth %.1f degrees against about %.1f): its banks are likely swapped; mark its bank sides (ltob, rtob), its pins, or give the flow direction",
+				names[i], svs[i].Projection.Azimuth, math.Mod(math.Atan2(sx, sy)*180/math.Pi+360, 360)))
+		}
+	}
+	return out
+}

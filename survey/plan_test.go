@@ -45,3 +45,34 @@ func TestLinesApart(t *testing.T) {
 		t.Errorf("6 m apart not warned: %q", w)
 	}
 }
+
+// A section of a reach whose line points against the others' is warned
+// of (invented azimuths: three lines at about 225°, one at 45°); lines a
+// few degrees apart are not; two opposite lines are both named; surveys
+// by station are not judged.
+func TestOppositeLines(t *testing.T) {
+	sv := func(az float64) Survey { return Survey{Projection: Projection{Line: LineFromPrinAx, Azimuth: az}} }
+	names := []string{"XS-1", "XS-2", "XS-3", "XS-4"}
+	for _, tc := range []struct {
+		name string
+		svs  []Survey
+		want []string
+	}{
+		{"one mirrored", []Survey{sv(224), sv(44.5), sv(226), sv(230)}, []string{"section XS-2:"}},
+		{"all alike", []Survey{sv(224), sv(219), sv(226), sv(232)}, nil},
+		{"two opposite", []Survey{sv(224), sv(43)}, []string{"sections XS-1 and XS-2"}},
+		{"by station not judged", []Survey{sv(224), {}, sv(226)}, nil},
+		{"only one with coordinates", []Survey{sv(224), {}}, nil},
+	} {
+		got := OppositeLines(tc.svs, names[:len(tc.svs)])
+		if len(got) != len(tc.want) {
+			t.Errorf("%s: %q, want %d warnings", tc.name, got, len(tc.want))
+			continue
+		}
+		for k, w := range tc.want {
+			if !strings.HasPrefix(got[k], w) {
+				t.Errorf("%s: %q, want it to start %q", tc.name, got[k], w)
+			}
+		}
+	}
+}
