@@ -28,6 +28,7 @@ const (
 	LeftFromPins    = "the pins marked left pin and right pin"
 	LeftFromFlow    = "the flow direction given"
 	LeftFromOrder   = "the order of the survey (its first point is the left end)"
+	LeftFromBanks   = "the bank marks naming their sides (the survey's order has them on the other sides)"
 	LineFromPins    = "the line through the two end pins"
 	LineGiven       = "the line given"
 	LineFromPrinAx  = "the principal axis of the points (total least squares)"
@@ -93,6 +94,7 @@ var (
 	ErrPins       = errors.New("mark exactly one left pin and one right pin")
 	ErrLineLength = errors.New("the section line has no length")
 	ErrFlowAlong  = errors.New("the flow direction runs along the section line, so it cannot tell left from right")
+	ErrBankSides  = errors.New("the two bank marks name the same side, so they cannot tell left from right")
 )
 
 // hasCoordinates reports a header with an easting (or x) and a northing
@@ -117,7 +119,8 @@ func coordinateColumns(t *Table) (ce, cn int, ok bool, err error) {
 }
 
 // projectPoints turns eastings and northings into stations along the
-// section line. rows are the points' records, for positions. It returns
+// section line. rows are the points' records, for positions; marks are
+// the points' marks as written (pins, bank marks). It returns
 // the stations in survey order (reversed order when Reversed) and the
 // permutation applied.
 func projectPoints(t *Table, rows []Record, e, n []float64, marks []string, opt CoordinateOptions) ([]float64, []int, Projection, error) {
@@ -235,7 +238,10 @@ func principalAxis(e, n []float64) (x0, y0, dx, dy float64) {
 }
 
 // orient turns the line's direction to run from left to right looking
-// downstream, by the flow direction, the pins, or the survey order.
+// downstream, by the flow direction, the pins, or the survey order; in
+// the survey order's case, a survey whose bank marks naming a side
+// (ltob, rb, ...) all lie on the other side is turned by them (the crew
+// shot it from the right end). Errors: ErrFlowAlong, ErrBankSides.
 func orient(t *Table, rows []Record, e, n []float64, marks []string, opt CoordinateOptions, dx, dy *float64, pr *Projection) error {
 	flip := func(ok bool) {
 		if !ok {
@@ -269,8 +275,50 @@ func orient(t *Table, rows []Record, e, n []float64, marks []string, opt Coordin
 		last := len(e) - 1
 		flip((e[last]-e[0])**dx+(n[last]-n[0])**dy > 0)
 		pr.Left = LeftFromOrder
+		turn, err := bankSidesTurn(t, rows, e, n, marks, *dx, *dy)
+		if err != nil {
+			return err
+		}
+		if turn {
+			flip(false)
+			pr.Left = LeftFromBanks
+		}
 	}
 	return nil
+}
+
+// bankSidesTurn reports whether the survey's two bank marks, taken along
+// the direction (dx, dy), both lie on the side other than the one they
+// name, when at least one names a side: the lower one names right (rb,
+// rtob, ...) or the higher one left, and neither names its own side. Two
+// marks naming one side (ltob and lb) contradict each other whichever
+// way the line runs: ErrBankSides at the second mark's row, naming both.
+// With other than two bank marks it reports false (the reader of the
+// banks reports their count).
+func bankSidesTurn(t *Table, rows []Record, e, n []float64, marks []string, dx, dy float64) (bool, error) {
+	var at []int
+	for i, m := range marks {
+		if _, ok := readBankMark(m); ok {
+			at = append(at, i)
+		}
+	}
+	if len(at) != 2 {
+		return false, nil
+	}
+	a, b := at[0], at[1]
+	if (e[b]-e[a])*dx+(n[b]-n[a])*dy < 0 {
+		a, b = b, a // a is the one at the lower station
+	}
+	sa, _ := readBankMark(marks[a])
+	sb, _ := readBankMark(marks[b])
+	if sa != eitherBank && sa == sb {
+		first, second := at[0], at[1]
+		return false, t.At(rows[second], t.Column(ColMark), fmt.Errorf("%w (%q at row %d, %q at row %d): correct one of them, or give the flow direction (--flow-azimuth)",
+			ErrBankSides, echo(marks[first]), rows[first].Row, echo(marks[second]), rows[second].Row))
+	}
+	wrong := sa == rightBank || sb == leftBank
+	right := sa == leftBank || sb == rightBank
+	return wrong && !right, nil
 }
 
 // flowAlongTolerance is the cosine between the flow direction and the
@@ -314,7 +362,7 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	if len(r.east) < 2 {
 		return nil // shape reports too few points
 	}
-	st, order, pr, err := projectPoints(r.t, r.records, r.east, r.north, r.sv.Labels, opt)
+	st, order, pr, err := projectPoints(r.t, r.records, r.east, r.north, r.sv.Marks, opt)
 	if err != nil {
 		return err
 	}
@@ -482,8 +530,9 @@ type ProjectionReport struct {
 	Survey Survey
 	// Units is the unit system of the survey's lengths.
 	Units rating.Units
-	// Warnings are the survey's (each point far off the line), and last
-	// how it was projected (Survey.ProjectionNote).
+	// Warnings are the survey's (each point far off the line). How it was
+	// projected is not a warning: Provenance.Notes holds it
+	// (Survey.ProjectionNote as a line with its position).
 	Warnings []string
 	// Figures are the pictures of the report (a plan of the points and the
 	// line), drawn by the caller.
@@ -512,7 +561,7 @@ func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (Projectio
 		return ProjectionReport{}, err
 	}
 	return ProjectionReport{
-		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site},
-		Survey:     sv, Units: units, Warnings: append(append([]string(nil), sv.Warnings...), sv.ProjectionNote.String()),
+		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: []string{sv.ProjectionNote.String()}},
+		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
 	}, nil
 }

@@ -246,6 +246,11 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 		Notes: append(append([]string(nil), ps[0].Notes...), ps[1].Notes...)}
 	c.GroundA, c.GroundB = ps[0].Ground, ps[1].Ground
 	c.Warnings = append(warnings, c.Warnings...)
+	if w, err := linesApart(ps, [2]string{a, b}, [2]string{f.sheetA, f.sheetB}); err != nil {
+		return err
+	} else if w != "" {
+		c.Warnings = append(c.Warnings, w)
+	}
 	c.SetDatums(ps[0].Site.Datum, ps[1].Site.Datum)
 	if f.plots != "" || format == "xlsx" {
 		figs, w, err := plotting.DrawSectionComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
@@ -260,6 +265,20 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	}[format]
 	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) },
 		"two surveys of one section", len(c.Rows))
+}
+
+// linesApart warns when both surveys carry eastings and northings and
+// their section lines lie farther apart than a resurvey's would.
+func linesApart(ps [2]*survey.Prepared, paths, sheets [2]string) (string, error) {
+	var lines [2]survey.PlanLine
+	for i, p := range ps {
+		l, ok, err := survey.SurveyPlanLine(p.Survey, paths[i], sheets[i])
+		if err != nil || !ok {
+			return "", err
+		}
+		lines[i] = l
+	}
+	return survey.ResurveyWarning(lines[0], lines[1], ps[0].Source(), ps[1].Source(), ps[0].Units), nil
 }
 
 // readSurveys reads surveys a and b, B in the units of A, and returns

@@ -25,8 +25,11 @@ type delivery struct {
 	// standard error after it.
 	inline   bool
 	warnings []string
-	plots    string // folder for the figures; "" for none
-	figs     []rating.Figure
+	// notes are input notes ("input: ..." on the console before the
+	// warnings, when the report does not carry them itself).
+	notes []string
+	plots string // folder for the figures; "" for none
+	figs  []rating.Figure
 	// summary prints the console summary after the report file is written.
 	summary func(w io.Writer) error
 }
@@ -99,6 +102,9 @@ func (e *env) deliver(d delivery) error {
 	}
 	switch {
 	case d.toStdout() && !d.inline:
+		if err := results.WriteInputNotes(e.stderr, d.notes); err != nil {
+			return err
+		}
 		return endNote(e.stderr, d.warnings)
 	case !d.toStdout() && d.summary != nil:
 		return d.summary(e.stderr)

@@ -62,7 +62,7 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	}
 	return e.deliver(delivery{output: *out, inputs: []string{fs.Arg(0)},
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: f == "json", warnings: rep.Warnings, plots: *plots, figs: rep.Figures,
+		inline: f == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: *plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteProjectionSummary(w, rep, *out) }})
 }
 

@@ -80,7 +80,7 @@ func TestProjectJSONAndPlan(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := "section units line left origin azimuth offset_tolerance max_offset reversed points site warnings caution"
+	want := "section units line left origin azimuth offset_tolerance max_offset reversed points site warnings caution input_notes"
 	if got := strings.Join(jsonKeys(t, data), " "); got != want {
 		t.Errorf("keys %s\nwant %s", got, want)
 	}
@@ -101,6 +101,58 @@ func TestProjectJSONAndPlan(t *testing.T) {
 	png, err := os.ReadFile(filepath.Join(dir, "larch-xs-coords-plan.png"))
 	if err != nil || !bytes.HasPrefix(png, []byte("\x89PNG")) {
 		t.Errorf("plan figure: %v", err)
+	}
+}
+
+// How a survey was projected is an input note, not a warning (README,
+// File formats): "input: ..." on the console, whether the CSV goes to
+// standard output or to a file, and input_notes in JSON, never among the
+// warnings.
+func TestProjectNoteIsInput(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	const note = "stations were projected from eastings and northings"
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"stdout", nil},
+		{"file", []string{"-o", filepath.Join(dir, "p.csv")}},
+	} {
+		_, errs, code := runCLI(t, append([]string{"project", larchCoords}, tc.args...)...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", tc.name, code, errs)
+		}
+		var input, warned bool
+		for _, l := range strings.Split(errs, "\n") {
+			input = input || strings.HasPrefix(l, "input: "+larchCoords+":") && strings.Contains(l, note)
+			warned = warned || strings.HasPrefix(l, "warning: ") && strings.Contains(l, note)
+		}
+		if !input {
+			t.Errorf("%s: no input line with the projection:\n%s", tc.name, errs)
+		}
+		if warned {
+			t.Errorf("%s: the projection is warned of:\n%s", tc.name, errs)
+		}
+	}
+	out, errs, code := runCLI(t, "project", larchCoords, "--format", "json")
+	if code != 0 {
+		t.Fatalf("json: exit %d: %s", code, errs)
+	}
+	var rep struct {
+		Warnings   []string `json:"warnings"`
+		InputNotes []string `json:"input_notes"`
+	}
+	if err := json.Unmarshal([]byte(out), &rep); err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.InputNotes) != 1 || !strings.Contains(rep.InputNotes[0], note) {
+		t.Errorf("input_notes %q", rep.InputNotes)
+	}
+	for _, w := range rep.Warnings {
+		if strings.Contains(w, "stations were projected") {
+			t.Errorf("the projection among the warnings: %q", w)
+		}
 	}
 }
 

@@ -127,7 +127,8 @@ func WriteProjectionCSV(w io.Writer, rep survey.ProjectionReport) error {
 // object: {"section","units","line","left","origin":{"easting",
 // "northing"},"azimuth","offset_tolerance","max_offset","reversed",
 // "points":[{"row","station","elevation","n","mark","note","easting",
-// "northing","offset"}],"site","warnings","caution"}. The azimuth is in
+// "northing","offset"}],"site","warnings","caution","input_notes"}, the
+// input notes saying how the survey was projected. The azimuth is in
 // degrees clockwise from grid north; lengths are in units.length.
 func WriteProjectionJSON(w io.Writer, rep survey.ProjectionReport) error {
 	pr := rep.Survey.Projection
@@ -149,16 +150,19 @@ func WriteProjectionJSON(w io.Writer, rep survey.ProjectionReport) error {
 		{key: "site", value: siteJSON(rep.Provenance.Site)},
 		{key: "warnings", value: nonNil(rep.Warnings)},
 		{key: "caution", value: rating.Caution},
+		{key: "input_notes", value: nonNil(rep.Provenance.Notes)},
 	})
 }
 
 // WriteProjectionSummary writes the console lines after a projection was
-// written to a file.
+// written to a file: what was written, the input notes ("input: ..."),
+// the warnings and the caution.
 func WriteProjectionSummary(w io.Writer, rep survey.ProjectionReport, output string) error {
 	bw := bufio.NewWriter(w)
 	pr := rep.Survey.Projection
 	fmt.Fprintf(bw, "wrote %s: %d points of %s projected onto %s, left bank from %s; farthest off the line %s %s\n",
 		output, len(rep.Survey.Section.Points), rep.Survey.Section.Name, pr.Line, pr.Left, FormatLength(pr.MaxOffset), rep.Units.Length())
+	writeInputNotes(bw, rep.Provenance.Notes)
 	return endSummary(bw, rep.Warnings)
 }
 

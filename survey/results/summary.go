@@ -24,6 +24,24 @@ func WriteWarnings(w io.Writer, warnings []string) error {
 	return bw.Flush()
 }
 
+// WriteInputNotes writes each input note (a fact of an input that is not
+// a warning, such as how a coordinate survey was projected) on a line of
+// its own, "input: ...".
+func WriteInputNotes(w io.Writer, notes []string) error {
+	bw := bufio.NewWriter(w)
+	writeInputNotes(bw, notes)
+	return bw.Flush()
+}
+
+// writeInputNotes writes the input notes, "input: ...", skipping empty ones.
+func writeInputNotes(w *bufio.Writer, notes []string) {
+	for _, n := range notes {
+		if n != "" {
+			fmt.Fprintf(w, "input: %s\n", n)
+		}
+	}
+}
+
 // WriteCaution writes the caution line.
 func WriteCaution(w io.Writer) error {
 	_, err := fmt.Fprintln(w, "caution: "+rating.Caution)
