@@ -238,3 +238,17 @@ func TestDemoCoordinateSurvey(t *testing.T) {
 		}
 	}
 }
+
+// TestRateCSVToStdoutNotesProjection: rating a coordinate survey with the
+// CSV table on standard output states the projection on the console as an
+// input line (README, Outputs), as it does with -o.
+func TestRateCSVToStdoutNotesProjection(t *testing.T) {
+	t.Parallel()
+	_, errs, code := runCLI(t, "rate", larchCoords, "--slope", "0.002")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(errs, "input: "+larchCoords+":") || !strings.Contains(errs, "stations were projected from eastings and northings") {
+		t.Errorf("no input line with the projection:\n%s", errs)
+	}
+}

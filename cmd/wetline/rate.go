@@ -156,7 +156,7 @@ func runRate(ctx context.Context, e *env, args []string) error {
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteRatingSummary(w, rep, f.output) }})
 }
 
