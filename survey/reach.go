@@ -224,10 +224,60 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 			r.Warnings = append(r.Warnings, "section "+row.ID+": "+w)
 		}
 	}
+	r.Warnings = append(r.Warnings, r.sameSurveys()...)
 	if !r.Site.Known() {
 		r.Site = surveysSite(r.Surveys)
 	}
 	return r, nil
+}
+
+// sameSurveys returns a warning for every pair of sections whose surveys
+// are one: read from the same file and sheet, or holding the same ground
+// points (every station and elevation equal) or the same eastings and
+// northings. Two sections of a reach are two places on the river; the
+// same ground at both is a copying slip that takes the slope and the
+// conveyance of one section for the other's, silently.
+func (r *Reach) sameSurveys() []string {
+	var out []string
+	for j := range r.Surveys {
+		for i := range j {
+			if why := sameSurvey(r.Rows[i], r.Rows[j], r.Surveys[i], r.Surveys[j]); why != "" {
+				out = append(out, fmt.Sprintf("sections %s and %s %s: two sections of a reach are two places on the river; "+
+					"check the survey column", r.Rows[i].ID, r.Rows[j].ID, why))
+			}
+		}
+	}
+	return out
+}
+
+// sameSurvey says how the surveys a and b of rows ra and rb are the same
+// ("" when they differ).
+func sameSurvey(ra, rb ReachRow, a, b Survey) string {
+	switch {
+	case ra.Sheet == rb.Sheet && samePath(ra.Path, rb.Path):
+		if ra.Sheet != "" {
+			return fmt.Sprintf("read the same sheet %s", ra.Sheet)
+		}
+		return fmt.Sprintf("read the same survey file %s", ra.Path)
+	case len(a.Projection.Easting) > 0 && slices.Equal(a.Projection.Easting, b.Projection.Easting) &&
+		slices.Equal(a.Projection.Northing, b.Projection.Northing):
+		return fmt.Sprintf("have the same surveyed coordinates (%s and %s)", Position(a.File, a.Sheet), Position(b.File, b.Sheet))
+	case len(a.Section.Points) > 0 && slices.Equal(a.Section.Points, b.Section.Points):
+		return fmt.Sprintf("have the same ground points, every station and elevation (%s and %s)",
+			Position(a.File, a.Sheet), Position(b.File, b.Sheet))
+	}
+	return ""
+}
+
+// samePath reports whether the paths a and b name one file: the same
+// path once cleaned, or the same file on disk.
+func samePath(a, b string) bool {
+	if filepath.Clean(a) == filepath.Clean(b) {
+		return true
+	}
+	sa, errA := os.Stat(a)
+	sb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(sa, sb)
 }
 
 // surveysSite is the site of a reach table that names none: the site its

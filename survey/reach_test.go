@@ -684,3 +684,47 @@ func TestReachSiteFromSurveys(t *testing.T) {
 		t.Errorf("surveys of two sites give the reach %+v", r.Site)
 	}
 }
+
+// TestReachSameSurvey checks that two sections reading one survey, or
+// surveys with the same ground, are warned of, naming both sections, and
+// that distinct surveys are not.
+func TestReachSameSurvey(t *testing.T) {
+	other := strings.Replace(reachSurveyCSV, "14,9,", "15,8.6,", 1)
+	for _, c := range []struct {
+		name, b, c string
+		files      map[string]string
+		want       string
+	}{
+		{"same file", "a.csv", "b.csv", map[string]string{"b.csv": other}, "sections A and B read the same survey file"},
+		{"same file other spelling", "b.csv", "./b.csv", map[string]string{"a.csv": reachSurveyCSV}, "sections B and C read the same survey file"},
+		{"same ground", "b.csv", "c.csv", map[string]string{"a.csv": reachSurveyCSV, "c.csv": other}, "sections B and C have the same ground points"},
+		{"distinct", "b.csv", "c.csv", map[string]string{"a.csv": reachSurveyCSV, "c.csv": reachSurveyCSV + "40,13,,\n"}, ""},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			files := map[string]string{"a.csv": reachSurveyCSV, "b.csv": other,
+				"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB," + c.b + ",100,10.9,10.9\nC," + c.c + ",200,10.8,10.8\n"}
+			for k, v := range c.files {
+				files[k] = v
+			}
+			if c.name == "same file" {
+				files["reach.csv"] = "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB,a.csv,100,10.9,10.9\nC,b.csv,200,10.8,10.8\n"
+			}
+			r, err := ReadReach(filepath.Join(reachFiles(t, files), "reach.csv"), "", SectionOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range r.Warnings {
+				if strings.Contains(w, "two sections of a reach are two places") {
+					got = append(got, w)
+				}
+			}
+			switch {
+			case c.want == "" && len(got) > 0:
+				t.Errorf("warned %q", got)
+			case c.want != "" && (len(got) != 1 || !strings.Contains(got[0], c.want)):
+				t.Errorf("warnings %q, want one containing %q", got, c.want)
+			}
+		})
+	}
+}
