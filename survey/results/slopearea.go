@@ -62,20 +62,23 @@ type jsonCheck struct {
 }
 
 type jsonUncertainty struct {
-	P05    Float   `json:"p05"`
-	P50    Float   `json:"p50"`
-	P95    Float   `json:"p95"`
-	Mean   Float   `json:"mean"`
-	SD     Float   `json:"sd"`
-	Draws  int     `json:"draws"`
-	Failed int     `json:"failed"`
-	Seed   uint64  `json:"seed"`
-	NCV    Float   `json:"n_cv"`
-	MarkSD Float   `json:"mark_sd"`
-	WSSD   []Float `json:"water_surface_sd"`
-	DQDN   Float   `json:"dq_dn"`
-	DQDNm  Float   `json:"dq_dn_per_0_001_n"`
-	DQDH   []Float `json:"dq_dh"`
+	P05    Float  `json:"p05"`
+	P50    Float  `json:"p50"`
+	P95    Float  `json:"p95"`
+	Mean   Float  `json:"mean"`
+	SD     Float  `json:"sd"`
+	Draws  int    `json:"draws"`
+	Failed int    `json:"failed"`
+	Seed   uint64 `json:"seed"`
+	NCV    Float  `json:"n_cv"`
+	MarkSD Float  `json:"mark_sd"`
+	// NErrors is "by-region" when one n error per region was shared by
+	// every section; absent for independent errors (the default).
+	NErrors string  `json:"n_errors,omitempty"`
+	WSSD    []Float `json:"water_surface_sd"`
+	DQDN    Float   `json:"dq_dn"`
+	DQDNm   Float   `json:"dq_dn_per_0_001_n"`
+	DQDH    []Float `json:"dq_dh"`
 }
 
 // WriteSlopeAreaJSON writes a slope-area report as one JSON object:
@@ -163,6 +166,9 @@ func saJSONUncertainty(u *reach.Uncertainty) *jsonUncertainty {
 	ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
 		SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
 		MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDNm: Float(u.DQDNPerMilli), DQDH: []Float{}, WSSD: []Float{}}
+	if u.NErrors == reach.NSharedByRegion {
+		ju.NErrors = u.NErrors.String()
+	}
 	for _, v := range u.DQDH {
 		ju.DQDH = append(ju.DQDH, Float(v))
 	}
@@ -377,7 +383,12 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 	L, Q := r.Units.Length(), r.Units.Discharge()
 	t.line("")
 	t.line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
-	t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+	if un.NErrors == reach.NSharedByRegion {
+		t.line("  Manning's n    log-normal, median the surveyed n, coefficient of variation %g; one error per region "+
+			"(left overbank, channel, right overbank) shared by every section", un.NCV)
+	} else {
+		t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+	}
 	if un.MarkSD > 0 {
 		t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
 	} else {
