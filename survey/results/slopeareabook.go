@@ -113,7 +113,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("method", "single-section slope-conveyance Q = K·√S with an assumed slope: a weaker method, no measured fall", "")
 		add("slope assumed", num("0.######", r.Slope), L+"/"+L)
 	}
-	add("water surface from", saSideWords(r.Side)+" marks", "")
+	add("water surface from", saSurfaceWords(r), "")
 	add("sections", len(r.Sections), "")
 	pass := 0
 	for _, c := range r.Checks {
