@@ -195,13 +195,28 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		default:
 			row.Path = filepath.Join(filepath.Dir(path), row.Survey)
 		}
+		if row.Sheet == "" && strings.Contains(row.Survey, `\`) {
+			if _, err := os.Stat(row.Path); err != nil {
+				if alt := slashedPath(filepath.Dir(path), row.Survey); alt != row.Path {
+					if _, err := os.Stat(alt); err == nil {
+						row.Path = alt
+					}
+				}
+			}
+		}
 		if row.Sheet == "" && !opt.SurveysAnywhere && !within(row.Path, filepath.Dir(path)) {
 			errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s)", ErrSurveyOutside, row.Path)))
 			continue
 		}
 		if row.Sheet == "" {
 			if st, err := os.Stat(row.Path); err != nil {
-				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path)))
+				pe := r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path))
+				if strings.Contains(row.Survey, `\`) {
+					// shown as written: quoted, its backslashes would read doubled
+					pe.Text, pe.Err = "", fmt.Errorf("%s: %w (looked for %s and %s)", row.Survey, ErrSurveyAbsent,
+						row.Path, slashedPath(filepath.Dir(path), row.Survey))
+				}
+				errs = append(errs, pe)
 				continue
 			} else if st.IsDir() {
 				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s is a folder: name the survey file in it)", ErrSurveyAbsent, row.Path)))
@@ -278,6 +293,17 @@ func samePath(a, b string) bool {
 	sa, errA := os.Stat(a)
 	sb, errB := os.Stat(b)
 	return errA == nil && errB == nil && os.SameFile(sa, sb)
+}
+
+// slashedPath is the path of a survey written with backslashes (as
+// Windows writes folders, e.g. surveys\xs-1.csv), read as folder
+// separators, relative to the reach table's folder dir.
+func slashedPath(dir, survey string) string {
+	alt := filepath.FromSlash(strings.ReplaceAll(survey, `\`, "/"))
+	if filepath.IsAbs(alt) {
+		return alt
+	}
+	return filepath.Join(dir, alt)
 }
 
 // surveysSite is the site of a reach table that names none: the site its

@@ -728,3 +728,35 @@ func TestReachSameSurvey(t *testing.T) {
 		})
 	}
 }
+
+// TestReachBackslashSurvey checks that a survey written with Windows
+// folder separators is found with them read as '/', and that one found
+// neither way is reported as written, not quoted with its backslashes
+// doubled.
+func TestReachBackslashSurvey(t *testing.T) {
+	other := strings.Replace(reachSurveyCSV, "14,9,", "15,8.6,", 1)
+	for _, c := range []struct {
+		name, survey, want string
+	}{
+		{"found", `sub\b.csv`, ""},
+		{"absent", `nowhere\b.csv`, `survey: nowhere\b.csv: no such survey file or sheet (looked for `},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"a.csv": reachSurveyCSV,
+				"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB," + c.survey + ",100,10.9,10.9\n"})
+			os.Mkdir(filepath.Join(dir, "sub"), 0o755)
+			os.WriteFile(filepath.Join(dir, "sub", "b.csv"), []byte(other), 0o644)
+			r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
+			switch {
+			case c.want == "" && err != nil:
+				t.Fatal(err)
+			case c.want == "":
+				if got := r.Rows[1].Path; got != filepath.Join(dir, "sub", "b.csv") {
+					t.Errorf("path %s", got)
+				}
+			case err == nil || !strings.Contains(err.Error(), c.want) || strings.Contains(err.Error(), `\\`) || !errors.Is(err, ErrSurveyAbsent):
+				t.Errorf("error %v, want one containing %q, errors.Is ErrSurveyAbsent", err, c.want)
+			}
+		})
+	}
+}
