@@ -182,6 +182,9 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	sheets := t.Sheets
 	r, err := ReachTable(t, ro)
 	if err != nil {
+		if sheet == "" && t.Sheet != "" {
+			err = otherReachSheet(path, t, err)
+		}
 		return nil, err
 	}
 	var errs errorList
@@ -293,6 +296,35 @@ func samePath(a, b string) bool {
 	sa, errA := os.Stat(a)
 	sb, errB := os.Stat(b)
 	return errA == nil && errB == nil && os.SameFile(sa, sb)
+}
+
+// otherReachSheet adds to err, a reach table missing a column on the
+// sheet t read by default (the first visible one), the name of the first
+// other sheet of the workbook whose header has the columns every reach
+// table needs (section, survey, distance), and how to read it; err
+// unchanged when none has.
+func otherReachSheet(path string, t *Table, err error) error {
+	var pe *ParseError
+	if !errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
+		return err
+	}
+	for _, name := range t.Sheets {
+		if name == t.Sheet {
+			continue
+		}
+		o, e := ReadTable(path, name)
+		if e != nil || o.Column(ReachColSection) < 0 || o.Column(ReachColSurvey) < 0 || o.Column(ReachColDistance) < 0 {
+			continue
+		}
+		arg := name
+		if strings.ContainsAny(name, " '\"$&;|()<>*?!#`") {
+			arg = "'" + strings.ReplaceAll(name, "'", `'\''`) + "'"
+		}
+		pe.Err = fmt.Errorf("%w; this sheet is not the reach table (read by default as the workbook's first): "+
+			"sheet %s holds one: give --sheet %s", pe.Err, name, arg)
+		return err
+	}
+	return err
 }
 
 // slashedPath is the path of a survey written with backslashes (as

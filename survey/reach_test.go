@@ -760,3 +760,32 @@ func TestReachBackslashSurvey(t *testing.T) {
 		})
 	}
 }
+
+// TestReachOtherSheetNamed checks that a workbook read without a sheet
+// whose first sheet is not a reach table names the sheet holding one, and
+// names none when no sheet does.
+func TestReachOtherSheetNamed(t *testing.T) {
+	surveyRows := [][]any{{"station", "elevation", "n"}, {0, 12, 0.05}, {10, 10, 0.04}, {20, 12, nil}}
+	reachRows := [][]any{{"section", "survey", "distance", "ws_left", "ws_right"}, {"XS1", "XS-1", 0, 11.0, 10.96}}
+	for _, c := range []struct {
+		name   string
+		sheets map[string][][]any
+		order  []string
+		want   string
+	}{
+		{"reach sheet later", map[string][][]any{"XS-1": surveyRows, "high water": reachRows}, []string{"XS-1", "high water"},
+			"sheet high water holds one: give --sheet 'high water'"},
+		{"no reach sheet", map[string][][]any{"XS-1": surveyRows, "XS-2": surveyRows}, []string{"XS-1", "XS-2"}, ""},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			path := writeBook(t, t.TempDir(), c.sheets, c.order)
+			_, err := ReadReach(path, "", SectionOptions{})
+			if !errors.Is(err, ErrMissingColumn) {
+				t.Fatalf("error %v, want ErrMissingColumn", err)
+			}
+			if named := strings.Contains(err.Error(), "--sheet"); named != (c.want != "") || !strings.Contains(err.Error(), c.want) {
+				t.Errorf("error %v, want %q", err, c.want)
+			}
+		})
+	}
+}
