@@ -182,6 +182,9 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	sheets := t.Sheets
 	r, err := ReachTable(t, ro)
 	if err != nil {
+		if sheet == "" && t.Sheet != "" {
+			err = otherReachSheet(path, t, err)
+		}
 		return nil, err
 	}
 	var errs errorList
@@ -195,13 +198,28 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		default:
 			row.Path = filepath.Join(filepath.Dir(path), row.Survey)
 		}
+		if row.Sheet == "" && strings.Contains(row.Survey, `\`) {
+			if _, err := os.Stat(row.Path); err != nil {
+				if alt := slashedPath(filepath.Dir(path), row.Survey); alt != row.Path {
+					if _, err := os.Stat(alt); err == nil {
+						row.Path = alt
+					}
+				}
+			}
+		}
 		if row.Sheet == "" && !opt.SurveysAnywhere && !within(row.Path, filepath.Dir(path)) {
 			errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s)", ErrSurveyOutside, row.Path)))
 			continue
 		}
 		if row.Sheet == "" {
 			if st, err := os.Stat(row.Path); err != nil {
-				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path)))
+				pe := r.At(i, ReachColSurvey, fmt.Errorf("%w (looked for %s)", ErrSurveyAbsent, row.Path))
+				if strings.Contains(row.Survey, `\`) {
+					// shown as written: quoted, its backslashes would read doubled
+					pe.Text, pe.Err = "", fmt.Errorf("%s: %w (looked for %s and %s)", row.Survey, ErrSurveyAbsent,
+						row.Path, slashedPath(filepath.Dir(path), row.Survey))
+				}
+				errs = append(errs, pe)
 				continue
 			} else if st.IsDir() {
 				errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s is a folder: name the survey file in it)", ErrSurveyAbsent, row.Path)))
@@ -224,10 +242,100 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 			r.Warnings = append(r.Warnings, "section "+row.ID+": "+w)
 		}
 	}
+	r.Warnings = append(r.Warnings, r.sameSurveys()...)
 	if !r.Site.Known() {
 		r.Site = surveysSite(r.Surveys)
 	}
 	return r, nil
+}
+
+// sameSurveys returns a warning for every pair of sections whose surveys
+// are one: read from the same file and sheet, or holding the same ground
+// points (every station and elevation equal) or the same eastings and
+// northings. Two sections of a reach are two places on the river; the
+// same ground at both is a copying slip that takes the slope and the
+// conveyance of one section for the other's, silently.
+func (r *Reach) sameSurveys() []string {
+	var out []string
+	for j := range r.Surveys {
+		for i := range j {
+			if why := sameSurvey(r.Rows[i], r.Rows[j], r.Surveys[i], r.Surveys[j]); why != "" {
+				out = append(out, fmt.Sprintf("sections %s and %s %s: two sections of a reach are two places on the river; "+
+					"check the survey column", r.Rows[i].ID, r.Rows[j].ID, why))
+			}
+		}
+	}
+	return out
+}
+
+// sameSurvey says how the surveys a and b of rows ra and rb are the same
+// ("" when they differ).
+func sameSurvey(ra, rb ReachRow, a, b Survey) string {
+	switch {
+	case ra.Sheet == rb.Sheet && samePath(ra.Path, rb.Path):
+		if ra.Sheet != "" {
+			return fmt.Sprintf("read the same sheet %s", ra.Sheet)
+		}
+		return fmt.Sprintf("read the same survey file %s", ra.Path)
+	case len(a.Projection.Easting) > 0 && slices.Equal(a.Projection.Easting, b.Projection.Easting) &&
+		slices.Equal(a.Projection.Northing, b.Projection.Northing):
+		return fmt.Sprintf("have the same surveyed coordinates (%s and %s)", Position(a.File, a.Sheet), Position(b.File, b.Sheet))
+	case len(a.Section.Points) > 0 && slices.Equal(a.Section.Points, b.Section.Points):
+		return fmt.Sprintf("have the same ground points, every station and elevation (%s and %s)",
+			Position(a.File, a.Sheet), Position(b.File, b.Sheet))
+	}
+	return ""
+}
+
+// samePath reports whether the paths a and b name one file: the same
+// path once cleaned, or the same file on disk.
+func samePath(a, b string) bool {
+	if filepath.Clean(a) == filepath.Clean(b) {
+		return true
+	}
+	sa, errA := os.Stat(a)
+	sb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(sa, sb)
+}
+
+// otherReachSheet adds to err, a reach table missing a column on the
+// sheet t read by default (the first visible one), the name of the first
+// other sheet of the workbook whose header has the columns every reach
+// table needs (section, survey, distance), and how to read it; err
+// unchanged when none has.
+func otherReachSheet(path string, t *Table, err error) error {
+	var pe *ParseError
+	if !errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
+		return err
+	}
+	for _, name := range t.Sheets {
+		if name == t.Sheet {
+			continue
+		}
+		o, e := ReadTable(path, name)
+		if e != nil || o.Column(ReachColSection) < 0 || o.Column(ReachColSurvey) < 0 || o.Column(ReachColDistance) < 0 {
+			continue
+		}
+		arg := name
+		if strings.ContainsAny(name, " '\"$&;|()<>*?!#`") {
+			arg = "'" + strings.ReplaceAll(name, "'", `'\''`) + "'"
+		}
+		pe.Err = fmt.Errorf("%w; this sheet is not the reach table (read by default as the workbook's first): "+
+			"sheet %s holds one: give --sheet %s", pe.Err, name, arg)
+		return err
+	}
+	return err
+}
+
+// slashedPath is the path of a survey written with backslashes (as
+// Windows writes folders, e.g. surveys\xs-1.csv), read as folder
+// separators, relative to the reach table's folder dir.
+func slashedPath(dir, survey string) string {
+	alt := filepath.FromSlash(strings.ReplaceAll(survey, `\`, "/"))
+	if filepath.IsAbs(alt) {
+		return alt
+	}
+	return filepath.Join(dir, alt)
 }
 
 // surveysSite is the site of a reach table that names none: the site its

@@ -684,3 +684,108 @@ func TestReachSiteFromSurveys(t *testing.T) {
 		t.Errorf("surveys of two sites give the reach %+v", r.Site)
 	}
 }
+
+// TestReachSameSurvey checks that two sections reading one survey, or
+// surveys with the same ground, are warned of, naming both sections, and
+// that distinct surveys are not.
+func TestReachSameSurvey(t *testing.T) {
+	other := strings.Replace(reachSurveyCSV, "14,9,", "15,8.6,", 1)
+	for _, c := range []struct {
+		name, b, c string
+		files      map[string]string
+		want       string
+	}{
+		{"same file", "a.csv", "b.csv", map[string]string{"b.csv": other}, "sections A and B read the same survey file"},
+		{"same file other spelling", "b.csv", "./b.csv", map[string]string{"a.csv": reachSurveyCSV}, "sections B and C read the same survey file"},
+		{"same ground", "b.csv", "c.csv", map[string]string{"a.csv": reachSurveyCSV, "c.csv": other}, "sections B and C have the same ground points"},
+		{"distinct", "b.csv", "c.csv", map[string]string{"a.csv": reachSurveyCSV, "c.csv": reachSurveyCSV + "40,13,,\n"}, ""},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			files := map[string]string{"a.csv": reachSurveyCSV, "b.csv": other,
+				"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB," + c.b + ",100,10.9,10.9\nC," + c.c + ",200,10.8,10.8\n"}
+			for k, v := range c.files {
+				files[k] = v
+			}
+			if c.name == "same file" {
+				files["reach.csv"] = "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB,a.csv,100,10.9,10.9\nC,b.csv,200,10.8,10.8\n"
+			}
+			r, err := ReadReach(filepath.Join(reachFiles(t, files), "reach.csv"), "", SectionOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range r.Warnings {
+				if strings.Contains(w, "two sections of a reach are two places") {
+					got = append(got, w)
+				}
+			}
+			switch {
+			case c.want == "" && len(got) > 0:
+				t.Errorf("warned %q", got)
+			case c.want != "" && (len(got) != 1 || !strings.Contains(got[0], c.want)):
+				t.Errorf("warnings %q, want one containing %q", got, c.want)
+			}
+		})
+	}
+}
+
+// TestReachBackslashSurvey checks that a survey written with Windows
+// folder separators is found with them read as '/', and that one found
+// neither way is reported as written, not quoted with its backslashes
+// doubled.
+func TestReachBackslashSurvey(t *testing.T) {
+	other := strings.Replace(reachSurveyCSV, "14,9,", "15,8.6,", 1)
+	for _, c := range []struct {
+		name, survey, want string
+	}{
+		{"found", `sub\b.csv`, ""},
+		{"absent", `nowhere\b.csv`, `survey: nowhere\b.csv: no such survey file or sheet (looked for `},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"a.csv": reachSurveyCSV,
+				"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB," + c.survey + ",100,10.9,10.9\n"})
+			os.Mkdir(filepath.Join(dir, "sub"), 0o755)
+			os.WriteFile(filepath.Join(dir, "sub", "b.csv"), []byte(other), 0o644)
+			r, err := ReadReach(filepath.Join(dir, "reach.csv"), "", SectionOptions{})
+			switch {
+			case c.want == "" && err != nil:
+				t.Fatal(err)
+			case c.want == "":
+				if got := r.Rows[1].Path; got != filepath.Join(dir, "sub", "b.csv") {
+					t.Errorf("path %s", got)
+				}
+			case err == nil || !strings.Contains(err.Error(), c.want) || strings.Contains(err.Error(), `\\`) || !errors.Is(err, ErrSurveyAbsent):
+				t.Errorf("error %v, want one containing %q, errors.Is ErrSurveyAbsent", err, c.want)
+			}
+		})
+	}
+}
+
+// TestReachOtherSheetNamed checks that a workbook read without a sheet
+// whose first sheet is not a reach table names the sheet holding one, and
+// names none when no sheet does.
+func TestReachOtherSheetNamed(t *testing.T) {
+	surveyRows := [][]any{{"station", "elevation", "n"}, {0, 12, 0.05}, {10, 10, 0.04}, {20, 12, nil}}
+	reachRows := [][]any{{"section", "survey", "distance", "ws_left", "ws_right"}, {"XS1", "XS-1", 0, 11.0, 10.96}}
+	for _, c := range []struct {
+		name   string
+		sheets map[string][][]any
+		order  []string
+		want   string
+	}{
+		{"reach sheet later", map[string][][]any{"XS-1": surveyRows, "high water": reachRows}, []string{"XS-1", "high water"},
+			"sheet high water holds one: give --sheet 'high water'"},
+		{"no reach sheet", map[string][][]any{"XS-1": surveyRows, "XS-2": surveyRows}, []string{"XS-1", "XS-2"}, ""},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			path := writeBook(t, t.TempDir(), c.sheets, c.order)
+			_, err := ReadReach(path, "", SectionOptions{})
+			if !errors.Is(err, ErrMissingColumn) {
+				t.Fatalf("error %v, want ErrMissingColumn", err)
+			}
+			if named := strings.Contains(err.Error(), "--sheet"); named != (c.want != "") || !strings.Contains(err.Error(), c.want) {
+				t.Errorf("error %v, want %q", err, c.want)
+			}
+		})
+	}
+}

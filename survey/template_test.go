@@ -737,9 +737,9 @@ func TestTemplateReachColumns(t *testing.T) {
 	}
 	ground := [][]any{{0.0, 103.0, 0.05, ""}, {3.0, 102.1, nil, ""}, {6.0, 101.0, 0.035, "bank"}, {10.0, 100.0, nil, ""},
 		{14.0, 101.1, 0.05, "bank"}, {17.0, 102.0, nil, ""}, {20.0, 103.2, nil, ""}}
-	for _, sheet := range []string{"XS-1", "XS-2"} {
-		fillSheet(t, f, sheet, survey.SectionHeaderRow+1, ground)
-	}
+	fillSheet(t, f, "XS-1", survey.SectionHeaderRow+1, ground)
+	ground[3] = []any{10.0, 99.8, nil, ""} // XS-2 is another place: its bed lies lower (the same ground is warned of)
+	fillSheet(t, f, "XS-2", survey.SectionHeaderRow+1, ground)
 	fillSheet(t, f, survey.FieldSheetReach, 2, [][]any{
 		{"XS-1", "XS-1", 0.0, nil, nil, "", 180.0, 150.0, "", "", "upstream"},
 		{"XS-2", "XS-2", 150.0, nil, nil, "", nil, nil, nil, "bridge", ""},

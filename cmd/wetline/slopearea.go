@@ -19,7 +19,7 @@ import (
 )
 
 const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
-	"[--draws N] [--seed N] [--n-cv CV] [--mark-sd SD] [--slope S] [--all-pools] [--no-extend] [--format text|json|xlsx] [-o FILE]"
+	"[--draws N] [--seed N] [--n-cv CV] [--n-errors independent|by-region] [--mark-sd SD] [--slope S] [--all-pools] [--no-extend] [--format text|json|xlsx] [-o FILE]"
 
 // minDraws is the fewest Monte Carlo draws slopearea takes for a band:
 // with 100 draws five lie beyond each of the 5th and 95th percentiles
@@ -39,6 +39,7 @@ type slopeAreaFlags struct {
 	draws              int
 	seed               uint64
 	nCV, markSD        float64
+	nErrors            string
 	slope              float64
 	allPools           bool
 	noExtend           bool
@@ -59,6 +60,9 @@ func (f *slopeAreaFlags) register(fs *flagSet) {
 		"(fewer leave too few draws beyond the 5th and 95th percentiles)", minDraws))
 	fs.Uint64Var(&f.seed, "seed", 1, "random seed of the Monte Carlo draws")
 	fs.Float64Var(&f.nCV, "n-cv", reach.DefaultNCV, "coefficient of variation of every subsection's Manning's n (log-normal; 0: none; at most 1)")
+	fs.StringVar(&f.nErrors, "n-errors", "independent", "how the Monte Carlo draws err in n: independent (each subsection of each section on its own; "+
+		"errors partly cancel) or by-region (one error for each of the left overbank, channel and right overbank, shared by every section, "+
+		"as when one person judges n for the whole reach; a wider band)")
 	fs.Float64Var(&f.markSD, "mark-sd", math.NaN(), "standard deviation of one high-water mark (default 0.03 m or 0.1 ft, at most 1 m or 3 ft; a quality column overrides it where rated, and the report warns when every section is rated; 0: no spread of any mark, rated or not)")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for a one-section reach: the weaker slope-conveyance estimate Q = K*sqrt(S)")
 	fs.notGiven("slope")
@@ -88,6 +92,10 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 	if err != nil {
 		return opt, usageError{err: err}
 	}
+	nErrors, err := reach.ParseNErrors(f.nErrors)
+	if err != nil {
+		return opt, usageError{err: fmt.Errorf("slopearea: --n-errors: %w", err)}
+	}
 	switch {
 	case f.draws < 0 || f.draws > reach.MaxDraws || f.draws > 0 && f.draws < minDraws:
 		return opt, usagef("slopearea: --draws %d: want 0 (no band) or %d to %d", f.draws, minDraws, reach.MaxDraws)
@@ -110,7 +118,7 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 		opt.SlopeArea.MarkSpread = f.markSpread
 	}
 	opt.Slope, opt.Draws = f.slope, f.draws
-	opt.MonteCarlo = reach.MonteCarloOptions{Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD}
+	opt.MonteCarlo = reach.MonteCarloOptions{Seed: f.seed, NCV: f.nCV, MarkSD: f.markSD, NErrors: nErrors}
 	if f.nCV == 0 {
 		opt.MonteCarlo.NCV = -1 // none
 	}

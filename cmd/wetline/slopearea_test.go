@@ -524,3 +524,34 @@ func TestSingleSurveyProjectionIsInputNote(t *testing.T) {
 		})
 	}
 }
+
+// --n-errors by-region reaches the Monte Carlo draws: the report says the
+// errors were shared and the band is wider than the default's; a word
+// other than independent or by-region is a usage error.
+func TestSlopeAreaNErrors(t *testing.T) {
+	t.Parallel()
+	band := func(args ...string) (string, float64) {
+		out, errs, code := runCLI(t, append([]string{"slopearea", "demodata/reach-brindle.csv", "--format", "json", "--draws", "1000"}, args...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var doc struct {
+			Uncertainty struct {
+				P05, P95 float64
+				NErrors  string `json:"n_errors"`
+			} `json:"uncertainty"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		return doc.Uncertainty.NErrors, doc.Uncertainty.P95 - doc.Uncertainty.P05
+	}
+	wi, indep := band()
+	ws, shared := band("--n-errors", "by-region")
+	if wi != "" || ws != "by-region" || !(shared > indep) {
+		t.Errorf("n_errors %q, %q; bands %g (independent) and %g (by region)", wi, ws, indep, shared)
+	}
+	if _, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--n-errors", "shared"); code != 2 || !strings.Contains(errs, "--n-errors") {
+		t.Errorf("--n-errors shared: exit %d, %s", code, errs)
+	}
+}

@@ -3,8 +3,10 @@ package reach
 import (
 	"fmt"
 	"math"
+	"strings"
 	"testing"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -118,5 +120,47 @@ func TestBackwaterAgainstGVF(t *testing.T) {
 		}
 		t.Logf("Δx %g m: largest departure %.3g m, tolerance %.3g m", dx, maxErr, tol)
 		prevErr = maxErr
+	}
+}
+
+// TestBackwaterOrderWarnings checks that a reach whose bed or marks rise
+// from the first section to the last (listed downstream first) is warned
+// of, and one falling downstream is not. The bed of the prisms falls 0.001
+// over 100 m: 0.1 m per subreach, 0.2 m over the reach (closed form).
+func TestBackwaterOrderWarnings(t *testing.T) {
+	for _, c := range []struct {
+		name           string
+		reverse        bool
+		marks          [3]float64
+		wantBed, wantW bool
+	}{
+		{"upstream first", false, [3]float64{101.5, 101.4, 101.3}, false, false},
+		{"downstream first", true, [3]float64{101.3, 101.4, 101.5}, true, true},
+		{"marks rise only", false, [3]float64{101.3, math.NaN(), 101.5}, false, true},
+		{"bed rises only, no marks", true, [3]float64{math.NaN(), math.NaN(), math.NaN()}, true, false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
+			if c.reverse {
+				for i, j := 0, len(secs)-1; i < j; i, j = i+1, j-1 {
+					secs[i].Geometry, secs[j].Geometry = secs[j].Geometry, secs[i].Geometry
+				}
+			}
+			for i := range secs {
+				secs[i].Left = c.marks[i]
+			}
+			res, err := ComputeBackwater(secs, []float64{20}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{Units: rating.SI})
+			if err != nil {
+				t.Fatal(err)
+			}
+			bed, marks := false, false
+			for _, w := range res.Warnings {
+				bed = bed || strings.HasPrefix(w, "the bed rises 0.2 m downstream")
+				marks = marks || strings.HasPrefix(w, "the high-water marks rise 0.2 m downstream")
+			}
+			if bed != c.wantBed || marks != c.wantW {
+				t.Errorf("bed warned %v, marks warned %v, want %v, %v: %q", bed, marks, c.wantBed, c.wantW, res.Warnings)
+			}
+		})
 	}
 }

@@ -77,7 +77,57 @@ func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) 
 		}
 		r.walls[i] = math.NaN()
 	}
+	r.warnings = append(r.warnings, orderWarnings(secs, opt.Units)...)
 	return r, nil
+}
+
+// orderWarnings returns a warning when the reach, listed upstream first,
+// looks listed downstream first: the thalweg (lowest ground) of the last
+// section above that of the first, or the high-water marks (the mean of
+// a section's given marks) at the last section with marks above those at
+// the first. Neither is refused: a bed may rise over a short reach (a
+// riffle below a pool), and the marks serve only --verify; but both
+// together are a reach listed the wrong way round, whose profile is
+// computed over a bed rising downstream.
+func orderWarnings(secs []Section, u rating.Units) []string {
+	var out []string
+	first, last := secs[0], secs[len(secs)-1]
+	if zu, zd := first.Geometry.Bottom(), last.Geometry.Bottom(); zd > zu {
+		out = append(out, fmt.Sprintf("the bed rises %.3g %s downstream over the reach (thalweg of %s at %.3f, of %s at %.3f %s): "+
+			"check that the sections are listed upstream first, with distances increasing downstream",
+			zd-zu, u.Length(), first.ID, zu, last.ID, zd, u.Length()))
+	}
+	up, down := -1, -1
+	for i, s := range secs {
+		if finite(markMean(s)) {
+			if up < 0 {
+				up = i
+			}
+			down = i
+		}
+	}
+	if up >= 0 && down > up {
+		if hu, hd := markMean(secs[up]), markMean(secs[down]); hd > hu {
+			out = append(out, fmt.Sprintf("the high-water marks rise %.3g %s downstream over the reach (%s at %.3f, %s at %.3f %s): "+
+				"check that the sections are listed upstream first, with distances increasing downstream",
+				hd-hu, u.Length(), secs[up].ID, hu, secs[down].ID, hd, u.Length()))
+		}
+	}
+	return out
+}
+
+// markMean is the mean of a section's given high-water marks (NaN when
+// it has none).
+func markMean(s Section) float64 {
+	switch l, r := finite(s.Left), finite(s.Right); {
+	case l && r:
+		return (s.Left + s.Right) / 2
+	case l:
+		return s.Left
+	case r:
+		return s.Right
+	}
+	return math.NaN()
 }
 
 // prepareSection checks section i and builds its model and flow lengths.

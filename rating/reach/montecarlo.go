@@ -7,11 +7,13 @@ import (
 	"math/rand/v2"
 	"runtime"
 	"sort"
+	"strings"
 	"sync"
 
 	"gonum.org/v1/gonum/stat"
 
 	"wetline/rating"
+	"wetline/subdivide"
 )
 
 // Defaults of the slope-area uncertainty analysis. They are stated
@@ -74,6 +76,52 @@ type MonteCarloOptions struct {
 	// Workers is the number of goroutines (default GOMAXPROCS). Results do
 	// not depend on it.
 	Workers int
+	// NErrors says how the errors of n are drawn: NIndependent (the zero
+	// value, the default) or NSharedByRegion.
+	NErrors NErrors
+}
+
+// NErrors says how a Monte Carlo draw spreads Manning's n over a reach.
+type NErrors int
+
+const (
+	// NIndependent draws the error of every subsection of every section
+	// on its own: errors of judgement that differ from place to place
+	// partly cancel over a reach, so the band is the narrower. It is the
+	// default, kept so that results computed before NSharedByRegion
+	// existed are reproduced.
+	NIndependent NErrors = iota
+	// NSharedByRegion draws one error for each region (left overbank,
+	// channel, right overbank) and applies it to every subsection of that
+	// region in every section: the same person judges n over the whole
+	// reach, so a bias in that judgement is shared and does not cancel,
+	// and the band is the wider.
+	NSharedByRegion
+)
+
+// NErrorWords returns the words of ParseNErrors, in the order of the
+// NErrors constants.
+func NErrorWords() []string { return []string{"independent", "by-region"} }
+
+// ErrNErrors is returned by ParseNErrors for a word not in NErrorWords.
+var ErrNErrors = fmt.Errorf("n errors must be %s", strings.Join(NErrorWords(), " or "))
+
+// ParseNErrors reads one of NErrorWords (case-insensitive).
+func ParseNErrors(word string) (NErrors, error) {
+	for i, w := range NErrorWords() {
+		if strings.EqualFold(strings.TrimSpace(word), w) {
+			return NErrors(i), nil
+		}
+	}
+	return NIndependent, fmt.Errorf("%w, not %q", ErrNErrors, word)
+}
+
+// String returns the word of e (one of NErrorWords).
+func (e NErrors) String() string {
+	if w := NErrorWords(); int(e) >= 0 && int(e) < len(w) {
+		return w[e]
+	}
+	return fmt.Sprintf("NErrors(%d)", int(e))
 }
 
 // Uncertainty is the spread of a slope-area discharge under uncertain n
@@ -89,6 +137,8 @@ type Uncertainty struct {
 	// deviation).
 	Seed        uint64
 	NCV, MarkSD float64
+	// NErrors is how the errors of n were drawn.
+	NErrors NErrors
 	// P05, P50 and P95 are the 5th, 50th and 95th percentiles of the
 	// discharge (linear interpolation between order statistics); Mean and
 	// SD its mean and standard deviation.
@@ -119,7 +169,10 @@ type saModel struct {
 	ws    []float64 // water surfaces from the marks
 	wsSD  []float64 // standard deviation of each water surface
 	nsubs []int     // subsections of each section
-	opt   SlopeAreaOptions
+	// regions holds each subsection's region, per section; nil when
+	// every subsection's n is drawn on its own (NIndependent).
+	regions [][]subdivide.Region
+	opt     SlopeAreaOptions
 }
 
 // saScratch is one goroutine's working space.
@@ -160,8 +213,13 @@ func (m *saModel) eval(s *saScratch) (float64, error) {
 //
 // and every section's water surface from a normal distribution about the
 // value from its marks with standard deviation MarkSD/√m for the mean of
-// m marks (marks independent), then solves the whole reach. Draws are
-// independent between sections and subsections. The result holds the
+// m marks (marks independent), then solves the whole reach. By default
+// (NIndependent) the n of every subsection of every section is drawn on
+// its own; with NSharedByRegion one factor exp(σ·z) is drawn for each
+// region (left overbank, channel, right overbank) and multiplies the n of
+// every subsection in that region of every section, the errors of one
+// person's judgement of n over a reach being shared. Water surfaces are
+// drawn independently between sections either way. The result holds the
 // 5th, 50th and 95th percentiles, mean and standard deviation of the
 // discharge (discharge unit of opt.Units) over the draws that solve, and
 // the sensitivities dQ/dn and dQ/dh by central differences. Draw d comes
@@ -204,6 +262,15 @@ func MonteCarlo(secs []Section, opt SlopeAreaOptions, mc MonteCarloOptions) (Unc
 		m.wsSD[i] = sd / math.Sqrt(float64(used[i]))
 		m.nsubs[i] = len(sts[i].w.Subs)
 	}
+	if mc.NErrors == NSharedByRegion {
+		m.regions = make([][]subdivide.Region, len(secs))
+		for i := range secs {
+			for _, sw := range sts[i].w.Subs {
+				m.regions[i] = append(m.regions[i], sw.Region)
+			}
+		}
+	}
+	u.NErrors = mc.NErrors
 	u.WaterSurfaceSD = append([]float64(nil), m.wsSD...)
 	u.DQDN, u.DQDH = m.sensitivities(sts)
 	u.DQDNPerMilli = u.DQDN * MilliN
@@ -295,10 +362,23 @@ func (m *saModel) draws(n int, sigma float64, seed uint64, workers int) []float6
 // factor into s from rng and returns the reach's discharge (NaN when it
 // does not solve).
 func (m *saModel) drawOne(s *saScratch, rng *rand.Rand, sigma float64) float64 {
-	for i := range m.secs {
-		s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
-		for j := range s.nmul[i] {
-			s.nmul[i][j] = math.Exp(sigma * rng.NormFloat64())
+	if m.regions != nil {
+		var f [3]float64 // by subdivide.Region
+		for k := range f {
+			f[k] = math.Exp(sigma * rng.NormFloat64())
+		}
+		for i := range m.secs {
+			s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
+			for j := range s.nmul[i] {
+				s.nmul[i][j] = f[m.regions[i][j]]
+			}
+		}
+	} else {
+		for i := range m.secs {
+			s.ws[i] = m.ws[i] + m.wsSD[i]*rng.NormFloat64()
+			for j := range s.nmul[i] {
+				s.nmul[i][j] = math.Exp(sigma * rng.NormFloat64())
+			}
 		}
 	}
 	v, err := m.eval(s)

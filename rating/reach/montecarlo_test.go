@@ -295,3 +295,64 @@ func TestFailedDrawsWarning(t *testing.T) {
 		}
 	}
 }
+
+// TestMonteCarloNSharedByRegion checks the band of n errors shared by
+// region against independent ones on a reach where the answer is known:
+// three equal sections without banks (all channel, six subsections of
+// differing n), the bed and the marks falling 0.1 m per 100 m, marks held.
+// Areas and velocity heads are equal at every section, so the fall is all
+// friction and Q = K·√S. One factor f on every n divides every K by f:
+// Q ∝ 1/f, and with ln f ~ N(0, σ²) the ratio P95/P50 of Q is exp(1.645σ),
+// σ = √ln(1 + CV²) (closed form). Independent factors on eighteen
+// subsections partly cancel, so that band is narrower.
+func TestMonteCarloNSharedByRegion(t *testing.T) {
+	var secs []Section
+	for i := range 3 {
+		bed := 100 - 0.1*float64(i)
+		s := subdivide.Section{N: []float64{0.04, 0.035, 0.03, 0.03, 0.035, 0.04}}
+		for _, p := range [][2]float64{{0, 3}, {10, 2}, {20, 1}, {30, 0}, {40, 1}, {50, 2}, {60, 3}} {
+			s.Points = append(s.Points, subdivide.Point{Station: p[0], Elevation: bed + p[1]})
+		}
+		g, err := subdivide.Compile(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		secs = append(secs, Section{ID: fmt.Sprint("S", i), Geometry: g, Distance: 100 * float64(i), Left: bed + 2.5, Right: bed + 2.5})
+	}
+	const cv = 0.15
+	band := func(e NErrors) Uncertainty {
+		u, err := MonteCarlo(secs, SlopeAreaOptions{}, MonteCarloOptions{Draws: 4000, Seed: 3, NCV: cv, MarkSD: -1, NErrors: e})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return u
+	}
+	shared, indep := band(NSharedByRegion), band(NIndependent)
+	if shared.NErrors != NSharedByRegion || indep.NErrors != NIndependent {
+		t.Errorf("settings reported %v and %v", shared.NErrors, indep.NErrors)
+	}
+	want := math.Exp(1.645 * math.Sqrt(math.Log1p(cv*cv)))
+	if got := shared.P95 / shared.P50; math.Abs(got/want-1) > 0.02 {
+		t.Errorf("shared P95/P50 = %.4f, want %.4f (closed form) within 2 %%", got, want)
+	}
+	ws, wi := shared.P95-shared.P05, indep.P95-indep.P05
+	if !(ws > 1.5*wi) {
+		t.Errorf("shared band %.4g not clearly wider than independent %.4g", ws, wi)
+	}
+}
+
+func TestParseNErrors(t *testing.T) {
+	for _, c := range []struct {
+		in   string
+		want NErrors
+		err  bool
+	}{{"independent", NIndependent, false}, {"By-Region", NSharedByRegion, false}, {"shared", 0, true}} {
+		got, err := ParseNErrors(c.in)
+		if (err != nil) != c.err || !c.err && got != c.want {
+			t.Errorf("ParseNErrors(%q) = %v, %v", c.in, got, err)
+		}
+		if c.err && !errors.Is(err, ErrNErrors) {
+			t.Errorf("ParseNErrors(%q): %v is not ErrNErrors", c.in, err)
+		}
+	}
+}

@@ -62,20 +62,23 @@ type jsonCheck struct {
 }
 
 type jsonUncertainty struct {
-	P05    Float   `json:"p05"`
-	P50    Float   `json:"p50"`
-	P95    Float   `json:"p95"`
-	Mean   Float   `json:"mean"`
-	SD     Float   `json:"sd"`
-	Draws  int     `json:"draws"`
-	Failed int     `json:"failed"`
-	Seed   uint64  `json:"seed"`
-	NCV    Float   `json:"n_cv"`
-	MarkSD Float   `json:"mark_sd"`
-	WSSD   []Float `json:"water_surface_sd"`
-	DQDN   Float   `json:"dq_dn"`
-	DQDNm  Float   `json:"dq_dn_per_0_001_n"`
-	DQDH   []Float `json:"dq_dh"`
+	P05    Float  `json:"p05"`
+	P50    Float  `json:"p50"`
+	P95    Float  `json:"p95"`
+	Mean   Float  `json:"mean"`
+	SD     Float  `json:"sd"`
+	Draws  int    `json:"draws"`
+	Failed int    `json:"failed"`
+	Seed   uint64 `json:"seed"`
+	NCV    Float  `json:"n_cv"`
+	MarkSD Float  `json:"mark_sd"`
+	// NErrors is "by-region" when one n error per region was shared by
+	// every section; absent for independent errors (the default).
+	NErrors string  `json:"n_errors,omitempty"`
+	WSSD    []Float `json:"water_surface_sd"`
+	DQDN    Float   `json:"dq_dn"`
+	DQDNm   Float   `json:"dq_dn_per_0_001_n"`
+	DQDH    []Float `json:"dq_dh"`
 }
 
 // WriteSlopeAreaJSON writes a slope-area report as one JSON object:
@@ -163,6 +166,9 @@ func saJSONUncertainty(u *reach.Uncertainty) *jsonUncertainty {
 	ju := &jsonUncertainty{P05: Float(u.P05), P50: Float(u.P50), P95: Float(u.P95), Mean: Float(u.Mean),
 		SD: Float(u.SD), Draws: u.Draws, Failed: u.Failed, Seed: u.Seed, NCV: Float(u.NCV),
 		MarkSD: Float(u.MarkSD), DQDN: Float(u.DQDN), DQDNm: Float(u.DQDNPerMilli), DQDH: []Float{}, WSSD: []Float{}}
+	if u.NErrors == reach.NSharedByRegion {
+		ju.NErrors = u.NErrors.String()
+	}
 	for _, v := range u.DQDH {
 		ju.DQDH = append(ju.DQDH, Float(v))
 	}
@@ -229,7 +235,7 @@ func saTextHeading(t *textReport, rep reach.Report) {
 	case reach.MethodSlopeArea:
 		t.line("  method        slope-area, %s (Dalrymple & Benson 1967, USGS TWRI 3-A2)", saSubreachesSolved(len(r.Subreaches)))
 		t.line("  subreaches    %s", saSubreachWords(r))
-		t.line("  reach         length %s %s, fall %s %s, water surface from %s marks", fixed(r.Length, lengthDecimals(saDistances(r)...)), L, fixed(r.Fall, 3), L, saSideWords(r.Side))
+		t.line("  reach         length %s %s, fall %s %s, water surface from %s", fixed(r.Length, lengthDecimals(saDistances(r)...)), L, fixed(r.Fall, 3), L, saSurfaceWords(r))
 	default:
 		t.line("  method        Q = K·√S at one section with an assumed slope S = %g: no measured fall, no velocity-head change", r.Slope)
 	}
@@ -377,7 +383,12 @@ func saTextUncertainty(t *textReport, r reach.SlopeArea, un *reach.Uncertainty) 
 	L, Q := r.Units.Length(), r.Units.Discharge()
 	t.line("")
 	t.line("Uncertainty (Monte Carlo, seed %d)", un.Seed)
-	t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+	if un.NErrors == reach.NSharedByRegion {
+		t.line("  Manning's n    log-normal, median the surveyed n, coefficient of variation %g; one error per region "+
+			"(left overbank, channel, right overbank) shared by every section", un.NCV)
+	} else {
+		t.line("  Manning's n    log-normal per subsection, median the surveyed n, coefficient of variation %g", un.NCV)
+	}
 	if un.MarkSD > 0 {
 		t.line("  marks          normal about each mark, standard deviation %g %s per mark unless its quality says otherwise", un.MarkSD, L)
 	} else {
@@ -427,6 +438,53 @@ func saSideWords(s reach.Side) string {
 		return "the right"
 	}
 	return "the mean of the left and right"
+}
+
+// saSurfaceWords says which marks set the water surfaces, as they were
+// used: the side asked for (r.Side) where every section has it, else that
+// side and, by name, the sections where the other mark stood in (a
+// section missing a mark uses the one it has; reach.SlopeAreaOptions.Side).
+func saSurfaceWords(r reach.SlopeArea) string {
+	var left, right, mean []string // section ids by the marks used
+	for _, s := range r.Sections {
+		hasL, hasR := !math.IsNaN(s.Left) && !math.IsInf(s.Left, 0), !math.IsNaN(s.Right) && !math.IsInf(s.Right, 0)
+		switch {
+		case hasL && hasR && r.Side == reach.MeanSide:
+			mean = append(mean, s.ID)
+		case hasL && (r.Side == reach.LeftSide || !hasR):
+			left = append(left, s.ID)
+		case hasR:
+			right = append(right, s.ID)
+		}
+	}
+	chosen, others := mean, []struct {
+		ids        []string
+		word, lack string
+	}{{left, "left", "right"}, {right, "right", "left"}}
+	switch r.Side {
+	case reach.LeftSide:
+		chosen, others = left, others[1:]
+	case reach.RightSide:
+		chosen, others = right, others[:1]
+	}
+	out := saSideWords(r.Side) + " marks"
+	var stand []string
+	for _, o := range others {
+		if len(o.ids) == 0 {
+			continue
+		}
+		if len(o.ids) == len(r.Sections) {
+			return fmt.Sprintf("the %s marks (no section has a %s mark)", o.word, o.lack)
+		}
+		stand = append(stand, fmt.Sprintf("the %s mark alone at %s (no %s mark)", o.word, strings.Join(o.ids, ", "), o.lack))
+	}
+	if len(stand) > 0 {
+		if len(chosen) == 0 {
+			return strings.Join(stand, "; ")
+		}
+		out += "; " + strings.Join(stand, "; ")
+	}
+	return out
 }
 
 // saDistances returns the distances of the reach's sections, from which

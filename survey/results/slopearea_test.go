@@ -72,6 +72,9 @@ func TestSlopeAreaTextUncertaintyWords(t *testing.T) {
 			[]string{"  90 % band     none: no draw of 200 had a solution"}},
 		{"marks held", reach.Uncertainty{Draws: 200, MarkSD: 0, P05: 90, P50: 100, P95: 110},
 			[]string{"  marks          not varied: every mark held at its elevation, its quality rating set aside"}},
+		{"n shared by region", reach.Uncertainty{Draws: 200, NCV: 0.15, NErrors: reach.NSharedByRegion, P05: 90, P50: 100, P95: 110},
+			[]string{"  Manning's n    log-normal, median the surveyed n, coefficient of variation 0.15; one error per region " +
+				"(left overbank, channel, right overbank) shared by every section"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100,
@@ -195,5 +198,43 @@ func TestSummaryDischargesPlain(t *testing.T) {
 	}
 	if want := "wrote r.csv: 2 stage(s) from 400.600 to 411.000 ft, discharge 0 to 4184 ft3/s (slope 0.002, us units)\n"; !strings.HasPrefix(b.String(), want) {
 		t.Errorf("got  %q\nwant %q", b.String(), want)
+	}
+}
+
+// The reach line says which marks set the water surfaces as they were
+// used: a section missing the mark asked for uses the one it has, and
+// the summary names it rather than claiming the side asked for.
+func TestSlopeAreaTextSurfaceWords(t *testing.T) {
+	nan := math.NaN()
+	both := [][2]float64{{10.5, 10.4}, {10.3, 10.2}, {10.1, 10.0}}
+	leftOnly := [][2]float64{{10.5, nan}, {10.3, nan}, {10.1, nan}}
+	oneGap := [][2]float64{{10.5, 10.4}, {10.3, nan}, {10.1, 10.0}}
+	for _, tc := range []struct {
+		name  string
+		side  reach.Side
+		marks [][2]float64
+		want  string
+	}{
+		{"right, all right", reach.RightSide, both, "water surface from the right marks"},
+		{"right, no right", reach.RightSide, leftOnly, "water surface from the left marks (no section has a right mark)"},
+		{"mean, no right", reach.MeanSide, leftOnly, "water surface from the left marks (no section has a right mark)"},
+		{"right, one missing", reach.RightSide, oneGap, "water surface from the right marks; the left mark alone at B (no right mark)"},
+		{"mean, one missing", reach.MeanSide, oneGap, "water surface from the mean of the left and right marks; the left mark alone at B (no right mark)"},
+		{"left, one right missing", reach.LeftSide, oneGap, "water surface from the left marks"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := reach.SlopeArea{Method: reach.MethodSlopeArea, Units: rating.SI, Discharge: 100, Side: tc.side,
+				SubreachMin: nan, SubreachMax: nan, SubreachSpread: nan}
+			for i, m := range tc.marks {
+				res.Sections = append(res.Sections, reach.SectionResult{ID: string(rune('A' + i)), Left: m[0], Right: m[1]})
+			}
+			var b bytes.Buffer
+			if err := results.WriteSlopeAreaText(&b, reach.Report{Result: res}); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(b.String(), tc.want+"\n") {
+				t.Errorf("no %q in\n%s", tc.want, b.String())
+			}
+		})
 	}
 }

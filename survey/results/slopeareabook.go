@@ -3,6 +3,7 @@ package results
 import (
 	"fmt"
 	"io"
+	"slices"
 
 	"wetline/rating"
 	"wetline/rating/reach"
@@ -112,7 +113,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("method", "single-section slope-conveyance Q = K·√S with an assumed slope: a weaker method, no measured fall", "")
 		add("slope assumed", num("0.######", r.Slope), L+"/"+L)
 	}
-	add("water surface from", saSideWords(r.Side)+" marks", "")
+	add("water surface from", saSurfaceWords(r), "")
 	add("sections", len(r.Sections), "")
 	pass := 0
 	for _, c := range r.Checks {
@@ -300,6 +301,10 @@ func writeSAUncertainty(b *workbook.Book, rep reach.Report) error {
 		{markSDLabel(un.MarkSD), nil, un.MarkSD, L},
 		{"dQ/dn, every n together", nil, un.DQDN, Q + " per unit n"},
 		{"dQ/dn, every n together, per 0.001 of n", nil, un.DQDNPerMilli, Q + " per 0.001 n"},
+	}
+	if un.NErrors == reach.NSharedByRegion {
+		rows = slices.Insert(rows, slices.IndexFunc(rows, func(r []any) bool { return r[0] == "coefficient of variation of n (log-normal)" })+1,
+			[]any{"errors of n", nil, "one per region, shared by every section", ""})
 	}
 	for i, sec := range r.Sections {
 		if i < len(un.WaterSurfaceSD) {
