@@ -173,7 +173,7 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 		if nl > 0 {
 			i = l
 		}
-		return 0, 0, 0, 0, t.At(rows[i], t.Column(ColMark), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
+		return 0, 0, 0, 0, t.At(rows[i], t.Column(markNames()...), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
 	default:
 		x0, y0, dx, dy = principalAxis(e, n)
 		pr.Line = LineFromPrinAx

@@ -117,6 +117,14 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 // name and its aliases (z, and elev or elev. as crews abbreviate it).
 func elevationNames() []string { return []string{ColElevation, "z", "elev", "elev."} }
 
+// markNames are the names of the mark column of a survey: its name and
+// the headers field crews give a point's code (code, point code, pt code,
+// description, desc; common practice of data collectors). None is a name
+// of another column of a survey.
+func markNames() []string {
+	return []string{ColMark, "code", "point code", "pt code", "description", "desc"}
+}
+
 // ErrNWithLength is the cause of a header naming an n column with a
 // length unit ("N (ft)"): Manning's n has no unit, so the column is not
 // n, and is most often a northing.
@@ -206,6 +214,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 		return r.sv, err
 	}
 	if !opt.IgnoreBankMarks {
+		r.unreadBankWarnings()
 		r.bankLikeWarnings()
 		if err := r.banks(); err != nil {
 			return r.sv, err
@@ -278,7 +287,9 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 			return r, err
 		}
 	}
-	r.cm = t.Column(ColMark)
+	if r.cm, err = t.Optional(markNames()...); err != nil {
+		return r, err
+	}
 	r.cnote = t.Column(ColNote)
 	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
 }
@@ -468,6 +479,38 @@ func (r *sectionReader) banks() error {
 	}
 	a, b := r.bankRows[0], r.bankRows[1]
 	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
+}
+
+// unreadBankWarnings warns, when no point is marked bank, of each column
+// the reader does not read whose cells hold bank marks (one of
+// BankWords): its banks are lost unless it is named as the mark column.
+func (r *sectionReader) unreadBankWarnings() {
+	if len(r.bankAt) > 0 {
+		return
+	}
+	t := r.t
+	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote}
+	for c := range t.Header {
+		if slices.Contains(read, c) {
+			continue
+		}
+		var words []string
+		var first Record
+		for _, rec := range t.Records {
+			if _, bank := readBankMark(t.Cell(rec, c)); bank {
+				if len(words) == 0 {
+					first = rec
+				}
+				words = append(words, t.Cell(rec, c))
+			}
+		}
+		if len(words) == 0 {
+			continue
+		}
+		r.sv.Warnings = append(r.sv.Warnings, t.At(first, c, fmt.Errorf(
+			"this column is not read, yet holds %d bank mark(s) (%s), and no bank was found: name it %s (or %s) if it marks the points",
+			len(words), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
+	}
 }
 
 // bankLikeWarnings warns, at its cell, of each mark that looks like a
