@@ -198,6 +198,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	for _, rec := range t.Records {
 		r.point(rec)
 	}
+	r.reversed()
 	if len(r.errs) > 0 {
 		return r.sv, r.errs.err()
 	}
@@ -243,6 +244,12 @@ type sectionReader struct {
 	records     []Record
 	// nGiven: n comes from elsewhere, so an all-blank n column is unused.
 	nGiven bool
+	// steps counts the steps between two stations read; decreases holds
+	// the index in errs of the error of each step that decreases, and
+	// prevOK says the station of the row before was read.
+	steps     int
+	decreases []int
+	prevOK    bool
 }
 
 // newSectionReader finds the columns and the units of a survey table.
@@ -344,6 +351,44 @@ func (r *sectionReader) splitNumbers() error {
 	return nil
 }
 
+// reversed replaces the errors of decreasing stations by one when all or
+// nearly all steps decrease (at least MinReversedSteps of them, and
+// ReversedFraction of the steps): the survey runs from right to left
+// bank, looking downstream, rather than holding points out of place. The
+// one error is at the first decreasing station.
+func (r *sectionReader) reversed() {
+	n := len(r.decreases)
+	if n < MinReversedSteps || float64(n) < ReversedFraction*float64(r.steps) {
+		return
+	}
+	first := r.errs[r.decreases[0]]
+	pts := r.sv.Section.Points
+	e := &ParseError{File: first.File, Sheet: first.Sheet, Row: first.Row, Column: first.Column, Name: first.Name, Text: first.Text,
+		Err: fmt.Errorf("%w: the stations decrease throughout (%d of %d steps, from %s to %s): the survey runs from right to left? "+
+			"Stations count from the left bank looking downstream: write the points in the reverse order, or their stations from the left end",
+			subdivide.ErrOverhang, n, r.steps, roundLength(pts[0].Station), roundLength(pts[len(pts)-1].Station))}
+	kept := errorList{}
+	for i, pe := range r.errs {
+		switch {
+		case i == r.decreases[0]:
+			kept = append(kept, e)
+		case !slices.Contains(r.decreases, i):
+			kept = append(kept, pe)
+		}
+	}
+	r.errs = kept
+}
+
+// MinReversedSteps and ReversedFraction say when a survey's decreasing
+// stations are one fault, a survey from right to left, rather than
+// points out of place: at least MinReversedSteps steps decrease, and at
+// least ReversedFraction of the steps (common practice: one or two
+// stations out of place are typing slips).
+const (
+	MinReversedSteps = 3
+	ReversedFraction = 0.8
+)
+
 // add records an error at a cell.
 func (r *sectionReader) add(rec Record, col int, err error) {
 	r.errs = append(r.errs, r.t.At(rec, col, err))
@@ -393,10 +438,15 @@ func (r *sectionReader) point(rec Record) {
 		}
 	}
 	pts := r.sv.Section.Points
-	if i := len(pts); i > 0 && okx && x < pts[i-1].Station {
-		r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
-			subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
+	if i := len(pts); i > 0 && okx && r.prevOK {
+		r.steps++
+		if x < pts[i-1].Station {
+			r.decreases = append(r.decreases, len(r.errs))
+			r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
+				subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
+		}
 	}
+	r.prevOK = okx
 	r.sv.Section.Points = append(pts, subdivide.Point{Station: x, Elevation: z})
 	r.ns = append(r.ns, n)
 	r.sv.Rows = append(r.sv.Rows, rec.Row)
