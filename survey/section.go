@@ -519,6 +519,10 @@ func (r *sectionReader) banks() error {
 		return nil
 	}
 	t, pts, sec := r.t, r.sv.Section.Points, &r.sv.Section
+	if len(r.bankAt) == 1 {
+		rec := r.bankRows[0]
+		return t.At(rec, r.cm, fmt.Errorf("%w, found 1: %s", ErrBankMarks, missingBank(t.Cell(rec, r.cm), pts[r.bankAt[0]].Station)))
+	}
 	if len(r.bankAt) != 2 {
 		return t.At(r.bankRows[len(r.bankRows)-1], r.cm, fmt.Errorf("%w, found %d", ErrBankMarks, len(r.bankAt)))
 	}
@@ -561,6 +565,20 @@ func (r *sectionReader) unreadBankWarnings() {
 			"this column is not read, yet holds %d bank mark(s) (%s), and no bank was found: name it %s (or %s) if it marks the points",
 			len(words), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
 	}
+}
+
+// missingBank says which bank is missing when the one bank mark of a
+// survey is mark, at station x: the side it does not name, or the other
+// bank when it names no side.
+func missingBank(mark string, x float64) string {
+	side, _ := readBankMark(mark)
+	switch side {
+	case leftBank:
+		return fmt.Sprintf("the left bank is marked (station %s), the right bank is missing: mark the right bank's point", roundLength(x))
+	case rightBank:
+		return fmt.Sprintf("the right bank is marked (station %s), the left bank is missing: mark the left bank's point", roundLength(x))
+	}
+	return fmt.Sprintf("the other bank is missing (one bank is marked, station %s): mark the other bank's point", roundLength(x))
 }
 
 // bankLikeWarnings warns, at its cell, of each mark that looks like a
