@@ -185,13 +185,53 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 	return x0, y0, dx / length, dy / length, nil
 }
 
-// pins finds the points marked left pin and right pin.
+// pinMarks is the one list of the words read as an end pin's mark:
+// MarkLeftPin and MarkRightPin first, then the forms field crews write
+// (common practice): lpin, l pin, left end pin, and the right's alike.
+// They are matched as bank marks are (see readPinMark).
+func pinMarks() []bankMark {
+	return []bankMark{
+		{MarkLeftPin, leftBank}, {MarkRightPin, rightBank},
+		{"lpin", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
+		{"rpin", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
+	}
+}
+
+// PinWords returns the words of the mark column read as the mark of an
+// end pin, left or right looking downstream, MarkLeftPin and
+// MarkRightPin first (a fresh slice). They are matched as BankWords are:
+// in any case, with runs of spaces, hyphens and underscores alike and
+// dots dropped, with their spaces or without them ("L.PIN", "l pin",
+// "Left-Pin" and "left_end_pin" are pins).
+func PinWords() []string {
+	var out []string
+	for _, p := range pinMarks() {
+		out = append(out, p.word)
+	}
+	return out
+}
+
+// readPinMark reports whether a mark is an end pin's (one of PinWords)
+// and the side it names.
+func readPinMark(mark string) (bankSide, bool) {
+	w := bankWord(mark)
+	compact := strings.ReplaceAll(w, " ", "")
+	for _, p := range pinMarks() {
+		if p.word == w || strings.ReplaceAll(p.word, " ", "") == compact {
+			return p.side, true
+		}
+	}
+	return eitherBank, false
+}
+
+// pins finds the points marked as the left pin and the right pin (one of
+// PinWords).
 func pins(marks []string) (left, right, nl, nr int) {
 	for i, m := range marks {
-		switch strings.ToLower(strings.Join(strings.Fields(m), " ")) {
-		case MarkLeftPin:
+		switch side, ok := readPinMark(m); {
+		case ok && side == leftBank:
 			left, nl = i, nl+1
-		case MarkRightPin:
+		case ok && side == rightBank:
 			right, nr = i, nr+1
 		}
 	}
