@@ -224,6 +224,30 @@ func readPinMark(mark string) (bankSide, bool) {
 	return eitherBank, false
 }
 
+// pinLike reports a mark that is not an end pin's (one of PinWords) but
+// holds the word pin (L pin 2, pin left, LT pin), as a crew writes of
+// an end pin.
+func pinLike(mark string) bool {
+	if _, ok := readPinMark(mark); ok {
+		return false
+	}
+	words := strings.FieldsFunc(bankWord(mark), func(r rune) bool { return !('a' <= r && r <= 'z') })
+	return slices.Contains(words, "pin") || slices.Contains(words, "lpin") || slices.Contains(words, "rpin")
+}
+
+// pinLikeWarnings warns, at its cell, of each mark of a coordinate
+// survey that looks like an end pin's (see pinLike) but is not read as
+// one, the section line being the principal axis of the points.
+func (r *sectionReader) pinLikeWarnings() {
+	for i, m := range r.sv.Marks {
+		if pinLike(m) {
+			r.sv.Warnings = append(r.sv.Warnings, r.t.At(r.records[i], r.cm, fmt.Errorf(
+				"not read as an end pin (the pin words are %s): the section line is the principal axis of the points; write one of them if the point is an end pin",
+				strings.Join(PinWords(), ", "))).Error())
+		}
+	}
+}
+
 // pins finds the points marked as the left pin and the right pin (one of
 // PinWords).
 func pins(marks []string) (left, right, nl, nr int) {
@@ -359,6 +383,9 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 		return err
 	}
 	zeroRoundOff(pr.Offsets, st)
+	if pr.Line == LineFromPrinAx {
+		r.pinLikeWarnings()
+	}
 	pr.Tolerance = opt.OffsetTolerance
 	if !(pr.Tolerance > 0) {
 		pr.Tolerance = DefaultOffsetSI

@@ -419,3 +419,32 @@ func TestPinWords(t *testing.T) {
 		}
 	}
 }
+
+// A mark holding the word pin that is no pin word is warned of at its
+// cell when the section line falls to the principal axis; pin words and
+// other marks are not. The data are invented.
+func TestPinLikeWarned(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		left, right string
+		warned      int
+	}{
+		{"L pin 2", "R pin 2", 2}, {"pin left", "GRD", 1}, {"LPIN", "RPIN", 0}, {"GRD", "GRD", 0},
+	} {
+		in := fmt.Sprintf("easting,northing,elevation,mark\n0,0,3,%s\n10,0.1,1,\n20,-0.1,0,\n30,0.2,1,\n40,0,3,%s\n", tc.left, tc.right)
+		sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+		if err != nil {
+			t.Errorf("%s/%s: %v", tc.left, tc.right, err)
+			continue
+		}
+		n := 0
+		for _, w := range sv.Warnings {
+			if strings.Contains(w, "not read as an end pin") {
+				n++
+			}
+		}
+		if n != tc.warned || n > 0 && !strings.Contains(strings.Join(sv.Warnings, "\n"), `xs.csv:2:4: mark "`+tc.left+`": not read as an end pin`) {
+			t.Errorf("%s/%s: warnings %q, want %d pin warning(s)", tc.left, tc.right, sv.Warnings, tc.warned)
+		}
+	}
+}
