@@ -159,3 +159,20 @@ func TestBankLike(t *testing.T) {
 		}
 	}
 }
+
+// One bank mark alone: the error names the bank missing, the side the
+// present mark does not name, or the other bank when it names none. The
+// data are invented.
+func TestOneBankSaysWhichIsMissing(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct{ mark, want string }{
+		{"LTOB", `xs.csv:3:3: mark "LTOB": exactly two points must be marked bank, found 1: the left bank is marked (station 5), the right bank is missing`},
+		{"R.B.", `xs.csv:3:3: mark "R.B.": exactly two points must be marked bank, found 1: the right bank is marked (station 5), the left bank is missing`},
+		{"bank", `xs.csv:3:3: mark "bank": exactly two points must be marked bank, found 1: the other bank is missing (one bank is marked, station 5)`},
+	} {
+		_, err := ParseSection(strings.NewReader("station,elevation,mark\n0,3,\n5,2,"+tc.mark+"\n10,0,\n20,3,\n"), "xs.csv", SectionOptions{})
+		if !errors.Is(err, ErrBankMarks) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%s: %v, want %q", tc.mark, err, tc.want)
+		}
+	}
+}

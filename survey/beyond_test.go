@@ -19,7 +19,7 @@ func TestValueBeyondHeader(t *testing.T) {
 		read      func(string) error
 		at        string // "" when read
 	}{
-		{"decimal comma", "station,elevation\n0,1\n1,0,5\n2,1\n", table, `t.csv:3:3: a value beyond the header's last column ("5"): name its column in the header, or quote a value that holds a comma`},
+		{"decimal comma", "station,elevation\n0,1\n1,0,5\n2,1\n", table, `t.csv:3:3: a value beyond the header's last column ("5"): name its column in the header, or quote a value that holds a comma (an unquoted decimal comma? 0,5 read as two values?)`},
 		{"after blank names", "station,elevation,,\n0,1,,7\n", table, "t.csv:2:4: a value beyond"},
 		{"quoted", "station,elevation\n0,1,\"x\"\n", table, "t.csv:2:3: a value beyond"},
 		{"trailing commas", "station,elevation,,\n0,1,,\n1,0,,,,\n", table, ""},
@@ -70,4 +70,44 @@ func csvTableErr(s string) error { _, err := ParseCSV(strings.NewReader(s), "t.c
 func csvStagesErr(s string) error {
 	_, err := ParseStageRecord(strings.NewReader(s), "t.csv", StageRecordOptions{})
 	return err
+}
+
+// A CSV row with more fields than a header line ending in a named column
+// is refused even when its extra fields are blank: an unquoted decimal
+// comma (524,8) has shifted the row right, and its trailing comma is a
+// field. A header line ending in blank fields (a spreadsheet's trailing
+// empty columns) keeps its rows' blank extra fields read as before.
+// A mark or note column holding a bare digit string after a whole number
+// on most rows is the same split spilled into a column under the header.
+// The data are invented.
+func TestDecimalCommaSpill(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, csv string
+		err       error  // nil when read
+		at        string // position and text the error holds
+	}{
+		{"trailing comma spilled", "station,elevation,mark,note\n0,731,4,left end,\n10,728.5,,\n20,729,7,right end,\n", ErrSpilledRow,
+			"s.csv:2:5: more fields than the header line (5 fields, the header 4): an unquoted decimal comma?"},
+		{"spreadsheet blank columns", "station,elevation,mark,note,,\n0,731.4,left end,,,\n20,729.7,right end,,,\n", nil, ""},
+		{"rows as wide as the header", "station,elevation,mark,note\n0,731.4,left end,\n20,729.7,right end,\n", nil, ""},
+		{"mark under the header", "station,elevation,mark,note,,\n0,731,4,left end,,\n10,728,2,,,\n20,729,7,right end,,\n", ErrSplitNumber,
+			`s.csv:2:3: mark "4": a number split in two: elevation 731 then 4, as on 3 of 3 rows: an unquoted decimal comma? 731,4 read as two values`},
+		{"note under the header", "station,elevation,note\n0,731,4\n10,728,2\n20,729,7\n", ErrSplitNumber, "s.csv:2:3: note \"4\""},
+		{"point numbers", "station,elevation,mark\n0,731,1\n10,728,2\n20,729,3\n", nil, ""},
+		{"one row", "station,elevation,mark\n0,731,4\n10,728.5,\n20,729.2,\n", nil, ""},
+		{"n takes the spill", "station,elevation,n,mark,,\n0,731,4,0.04,,\n20,729,7,0.04,,\n", ErrImplausible,
+			`s.csv:2:3: n "4": roughness 4 is not a plausible value for Manning's n (0.005 to 1) (an unquoted decimal comma? 731,4 read as two values)`},
+	} {
+		_, err := ParseSection(strings.NewReader(tc.csv), "s.csv", SectionOptions{})
+		if tc.err == nil {
+			if err != nil {
+				t.Errorf("%s: %v", tc.name, err)
+			}
+			continue
+		}
+		if !errors.Is(err, tc.err) || !strings.Contains(err.Error(), tc.at) {
+			t.Errorf("%s: %v, want %v at %s", tc.name, err, tc.err, tc.at)
+		}
+	}
 }

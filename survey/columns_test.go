@@ -55,3 +55,39 @@ func TestElevAlias(t *testing.T) {
 		t.Error("elev. not found")
 	}
 }
+
+// The mark column is read under the headers crews give a point's code
+// (code, point code, pt code, description, desc), in a survey by station
+// and in a coordinate survey alike; two of them in one header are
+// refused; a column not read that holds bank marks while no bank was
+// found is warned of. The data are invented.
+func TestMarkColumnNames(t *testing.T) {
+	t.Parallel()
+	stations := "0,731.4,LPIN\n10,728.1,LTOB\n20,725.2,GRD\n30,728.3,RTOB\n40,731.0,RPIN\n"
+	coords := "5000,2000,731.4,left pin\n5007,2007,728.1,LTOB\n5014,2014,725.2,GRD\n5021,2021,728.3,RTOB\n5028,2028,731.0,right pin\n"
+	for _, name := range []string{"mark", "code", "Code", "CODE", "point code", "Point-Code", "point_code", "pt code", "description", "Desc"} {
+		for _, tc := range []struct{ kind, csv string }{
+			{"stations", "station,elevation," + name + "\n" + stations},
+			{"coordinates", "x,y,z," + name + "\n" + coords},
+		} {
+			sv, err := ParseSection(strings.NewReader(tc.csv), "s.csv", SectionOptions{})
+			if err != nil {
+				t.Errorf("%s %q: %v", tc.kind, name, err)
+				continue
+			}
+			if !sv.Section.HasBanks || len(sv.Warnings) > 0 && strings.Contains(strings.Join(sv.Warnings, "\n"), "not read") {
+				t.Errorf("%s %q: banks %v, warnings %q: want the banks read from the column", tc.kind, name, sv.Section.HasBanks, sv.Warnings)
+			}
+			if tc.kind == "coordinates" && sv.Projection.Line != LineFromPins {
+				t.Errorf("%s %q: line %q, want the pins' line", tc.kind, name, sv.Projection.Line)
+			}
+		}
+	}
+	if _, err := ParseSection(strings.NewReader("station,elevation,mark,code\n0,1,bank,x\n1,0,,\n2,1,bank,\n"), "s.csv", SectionOptions{}); !errors.Is(err, ErrAliasColumns) {
+		t.Errorf("mark and code: %v, want ErrAliasColumns", err)
+	}
+	sv, err := ParseSection(strings.NewReader("station,elevation,pt\n"+stations), "s.csv", SectionOptions{})
+	if err != nil || sv.Section.HasBanks || len(sv.Warnings) != 1 || !strings.Contains(sv.Warnings[0], `s.csv:3:3: pt "LTOB": this column is not read, yet holds 2 bank mark(s) (LTOB, RTOB), and no bank was found`) {
+		t.Errorf("unread column: %v, %q", err, sv.Warnings)
+	}
+}

@@ -176,7 +176,7 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 		if nl > 0 {
 			i = l
 		}
-		return 0, 0, 0, 0, t.At(rows[i], t.Column(ColMark), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
+		return 0, 0, 0, 0, t.At(rows[i], t.Column(markNames()...), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
 	default:
 		x0, y0, dx, dy = principalAxis(e, n)
 		pr.Line = LineFromPrinAx
@@ -188,13 +188,77 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 	return x0, y0, dx / length, dy / length, nil
 }
 
-// pins finds the points marked left pin and right pin.
+// pinMarks is the one list of the words read as an end pin's mark:
+// MarkLeftPin and MarkRightPin first, then the forms field crews write
+// (common practice): lpin, l pin, left end pin, and the right's alike.
+// They are matched as bank marks are (see readPinMark).
+func pinMarks() []bankMark {
+	return []bankMark{
+		{MarkLeftPin, leftBank}, {MarkRightPin, rightBank},
+		{"lpin", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
+		{"rpin", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
+	}
+}
+
+// PinWords returns the words of the mark column read as the mark of an
+// end pin, left or right looking downstream, MarkLeftPin and
+// MarkRightPin first (a fresh slice). They are matched as BankWords are:
+// in any case, with runs of spaces, hyphens and underscores alike and
+// dots dropped, with their spaces or without them ("L.PIN", "l pin",
+// "Left-Pin" and "left_end_pin" are pins).
+func PinWords() []string {
+	var out []string
+	for _, p := range pinMarks() {
+		out = append(out, p.word)
+	}
+	return out
+}
+
+// readPinMark reports whether a mark is an end pin's (one of PinWords)
+// and the side it names.
+func readPinMark(mark string) (bankSide, bool) {
+	w := bankWord(mark)
+	compact := strings.ReplaceAll(w, " ", "")
+	for _, p := range pinMarks() {
+		if p.word == w || strings.ReplaceAll(p.word, " ", "") == compact {
+			return p.side, true
+		}
+	}
+	return eitherBank, false
+}
+
+// pinLike reports a mark that is not an end pin's (one of PinWords) but
+// holds the word pin (L pin 2, pin left, LT pin), as a crew writes of
+// an end pin.
+func pinLike(mark string) bool {
+	if _, ok := readPinMark(mark); ok {
+		return false
+	}
+	words := strings.FieldsFunc(bankWord(mark), func(r rune) bool { return !('a' <= r && r <= 'z') })
+	return slices.Contains(words, "pin") || slices.Contains(words, "lpin") || slices.Contains(words, "rpin")
+}
+
+// pinLikeWarnings warns, at its cell, of each mark of a coordinate
+// survey that looks like an end pin's (see pinLike) but is not read as
+// one, the section line being the principal axis of the points.
+func (r *sectionReader) pinLikeWarnings() {
+	for i, m := range r.sv.Marks {
+		if pinLike(m) {
+			r.sv.Warnings = append(r.sv.Warnings, r.t.At(r.records[i], r.cm, fmt.Errorf(
+				"not read as an end pin (the pin words are %s): the section line is the principal axis of the points; write one of them if the point is an end pin",
+				strings.Join(PinWords(), ", "))).Error())
+		}
+	}
+}
+
+// pins finds the points marked as the left pin and the right pin (one of
+// PinWords).
 func pins(marks []string) (left, right, nl, nr int) {
 	for i, m := range marks {
-		switch strings.ToLower(strings.Join(strings.Fields(m), " ")) {
-		case MarkLeftPin:
+		switch side, ok := readPinMark(m); {
+		case ok && side == leftBank:
 			left, nl = i, nl+1
-		case MarkRightPin:
+		case ok && side == rightBank:
 			right, nr = i, nr+1
 		}
 	}
@@ -367,6 +431,9 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 		return err
 	}
 	zeroRoundOff(pr.Offsets, st)
+	if pr.Line == LineFromPrinAx {
+		r.pinLikeWarnings()
+	}
 	pr.Tolerance = opt.OffsetTolerance
 	if !(pr.Tolerance > 0) {
 		pr.Tolerance = DefaultOffsetSI

@@ -387,3 +387,64 @@ func TestCoordinateSurveyOnTheLine(t *testing.T) {
 		t.Errorf("projection note %+v", sv.ProjectionNote)
 	}
 }
+
+// The end pins are read under the forms crews write (LPIN, L PIN,
+// left-pin, left_pin, L.PIN, left end pin, and the right's alike): the
+// section line runs through them and they say the left bank, so a survey
+// written from the right pin has its stations from the left pin. A mark
+// that is no pin word leaves the principal axis. The data are invented:
+// points on the line north = 0 with the pins on it, so the stations are
+// the eastings counted from the left pin (closed form).
+func TestPinWords(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		left, right string
+		pins        bool
+	}{
+		{"left pin", "right pin", true}, {"LPIN", "RPIN", true}, {"L PIN", "R PIN", true}, {"left-pin", "right-pin", true},
+		{"left_pin", "right_pin", true}, {"L.PIN", "R.PIN", true}, {"left end pin", "right end pin", true}, {"Left End-Pin", "R. End Pin", true},
+		{"pin", "pin", false}, {"LP", "RP", false},
+	} {
+		in := fmt.Sprintf("easting,northing,elevation,mark\n40,0,3,%s\n30,0.2,1,\n20,-0.1,0,\n10,0.1,1,\n0,0,3,%s\n", tc.right, tc.left)
+		sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+		if err != nil {
+			t.Errorf("%s/%s: %v", tc.left, tc.right, err)
+			continue
+		}
+		if got := sv.Projection.Line == LineFromPins; got != tc.pins {
+			t.Errorf("%s/%s: line %q, want the pins' line %v", tc.left, tc.right, sv.Projection.Line, tc.pins)
+		}
+		if tc.pins && (sv.Section.Points[0].Station != 0 || sv.Mark(0) != tc.left) {
+			t.Errorf("%s/%s: first point station %g mark %q, want the left pin at 0", tc.left, tc.right, sv.Section.Points[0].Station, sv.Mark(0))
+		}
+	}
+}
+
+// A mark holding the word pin that is no pin word is warned of at its
+// cell when the section line falls to the principal axis; pin words and
+// other marks are not. The data are invented.
+func TestPinLikeWarned(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		left, right string
+		warned      int
+	}{
+		{"L pin 2", "R pin 2", 2}, {"pin left", "GRD", 1}, {"LPIN", "RPIN", 0}, {"GRD", "GRD", 0},
+	} {
+		in := fmt.Sprintf("easting,northing,elevation,mark\n0,0,3,%s\n10,0.1,1,\n20,-0.1,0,\n30,0.2,1,\n40,0,3,%s\n", tc.left, tc.right)
+		sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+		if err != nil {
+			t.Errorf("%s/%s: %v", tc.left, tc.right, err)
+			continue
+		}
+		n := 0
+		for _, w := range sv.Warnings {
+			if strings.Contains(w, "not read as an end pin") {
+				n++
+			}
+		}
+		if n != tc.warned || n > 0 && !strings.Contains(strings.Join(sv.Warnings, "\n"), `xs.csv:2:4: mark "`+tc.left+`": not read as an end pin`) {
+			t.Errorf("%s/%s: warnings %q, want %d pin warning(s)", tc.left, tc.right, sv.Warnings, tc.warned)
+		}
+	}
+}

@@ -24,3 +24,25 @@ func TestOutOfOrderNamesBothRows(t *testing.T) {
 		}
 	}
 }
+
+// A survey whose stations decrease at every step, or nearly every one,
+// runs from right to left: one error says so, at the first decreasing
+// station, not one per row; a station or two out of place keep their
+// own errors. The data are invented.
+func TestReversedStationsOneError(t *testing.T) {
+	for _, tc := range []struct {
+		name, in string
+		errs     int // errors reported
+		want     string
+	}{
+		{"every step", "station,elevation\n40,3\n30,1\n20,0\n10,1\n0,3\n", 1,
+			`xs.csv:3:1: station "30": station decreases (an overhang): stations must not decrease left to right: the stations decrease throughout (4 of 4 steps, from 40 to 0): the survey runs from right to left?`},
+		{"nearly every step", "station,elevation\n50,3\n40,2\n30,1\n32,0\n20,0\n10,1\n0,3\n", 1, "the stations decrease throughout (5 of 6 steps"},
+		{"two out of place", "station,elevation\n0,3\n12,0\n9,0\n15,3\n14,3\n20,3\n", 2, "station 9 after 12 at row 3"},
+	} {
+		_, err := ParseSection(strings.NewReader(tc.in), "xs.csv", SectionOptions{})
+		if !errors.Is(err, subdivide.ErrOverhang) || !strings.Contains(err.Error(), tc.want) || strings.Count(err.Error(), "\n")+1 != tc.errs {
+			t.Errorf("%s: %v, want %d error(s) holding %q", tc.name, err, tc.errs, tc.want)
+		}
+	}
+}

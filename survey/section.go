@@ -6,6 +6,8 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -115,6 +117,14 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 // name and its aliases (z, and elev or elev. as crews abbreviate it).
 func elevationNames() []string { return []string{ColElevation, "z", "elev", "elev."} }
 
+// markNames are the names of the mark column of a survey: its name and
+// the headers field crews give a point's code (code, point code, pt code,
+// description, desc; common practice of data collectors). None is a name
+// of another column of a survey.
+func markNames() []string {
+	return []string{ColMark, "code", "point code", "pt code", "description", "desc"}
+}
+
 // ErrNWithLength is the cause of a header naming an n column with a
 // length unit ("N (ft)"): Manning's n has no unit, so the column is not
 // n, and is most often a northing.
@@ -182,9 +192,13 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if err != nil {
 		return r.sv, err
 	}
+	if err := r.splitNumbers(); err != nil {
+		return r.sv, err
+	}
 	for _, rec := range t.Records {
 		r.point(rec)
 	}
+	r.reversed()
 	if len(r.errs) > 0 {
 		return r.sv, r.errs.err()
 	}
@@ -201,6 +215,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 		return r.sv, err
 	}
 	if !opt.IgnoreBankMarks {
+		r.unreadBankWarnings()
 		r.bankLikeWarnings()
 		if err := r.banks(); err != nil {
 			return r.sv, err
@@ -229,6 +244,12 @@ type sectionReader struct {
 	records     []Record
 	// nGiven: n comes from elsewhere, so an all-blank n column is unused.
 	nGiven bool
+	// steps counts the steps between two stations read; decreases holds
+	// the index in errs of the error of each step that decreases, and
+	// prevOK says the station of the row before was read.
+	steps     int
+	decreases []int
+	prevOK    bool
 }
 
 // newSectionReader finds the columns and the units of a survey table.
@@ -273,10 +294,100 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 			return r, err
 		}
 	}
-	r.cm = t.Column(ColMark)
+	if r.cm, err = t.Optional(markNames()...); err != nil {
+		return r, err
+	}
 	r.cnote = t.Column(ColNote)
 	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
 }
+
+// ErrSplitNumber is the cause of a mark or note column that holds, on
+// most rows, a bare digit string after a whole number in the number
+// column before it (elevation 524, mark 8): a value written with an
+// unquoted decimal comma (524,8) split in two and shifted the row.
+var ErrSplitNumber = errors.New("a number split in two")
+
+var (
+	wholeNumber = regexp.MustCompile(`^[-+]?[0-9]+$`)
+	digitString = regexp.MustCompile(`^[0-9]+$`)
+)
+
+// splitPair reports two neighbouring cells that read as one number
+// split at a decimal comma: a whole number, then a bare digit string.
+func splitPair(whole, digits string) bool {
+	return wholeNumber.MatchString(whole) && digitString.MatchString(digits)
+}
+
+// splitNumbers returns the error (ErrSplitNumber) of a mark or note
+// column, after a number column read, holding a split number (see
+// splitPair) on more than half of the rows, and on two rows at least:
+// a decimal comma that shifted the rows. Digit strings increasing down
+// the rows are point numbers, not split numbers, and pass.
+func (r *sectionReader) splitNumbers() error {
+	t := r.t
+	numeric := []int{r.cs, r.cx, r.cy, r.ce, r.cn}
+	for _, c := range []int{r.cm, r.cnote} {
+		if c < 1 || !slices.Contains(numeric, c-1) {
+			continue
+		}
+		var at []Record
+		increasing, last := true, -1
+		for _, rec := range t.Records {
+			if !splitPair(t.Cell(rec, c-1), t.Cell(rec, c)) {
+				continue
+			}
+			at = append(at, rec)
+			v, err := strconv.Atoi(t.Cell(rec, c))
+			increasing = increasing && err == nil && v > last
+			last = v
+		}
+		if len(at) < 2 || 2*len(at) <= len(t.Records) || increasing {
+			continue
+		}
+		rec := at[0]
+		return t.At(rec, c, fmt.Errorf("%w: %s %s then %s, as on %d of %d rows: %s %s,%s read as two values; quote a value that holds a comma, and write numbers with a decimal point",
+			ErrSplitNumber, echo(t.Header[c-1]), t.Cell(rec, c-1), t.Cell(rec, c), len(at), len(t.Records), decimalCommaHint, t.Cell(rec, c-1), t.Cell(rec, c)))
+	}
+	return nil
+}
+
+// reversed replaces the errors of decreasing stations by one when all or
+// nearly all steps decrease (at least MinReversedSteps of them, and
+// ReversedFraction of the steps): the survey runs from right to left
+// bank, looking downstream, rather than holding points out of place. The
+// one error is at the first decreasing station.
+func (r *sectionReader) reversed() {
+	n := len(r.decreases)
+	if n < MinReversedSteps || float64(n) < ReversedFraction*float64(r.steps) {
+		return
+	}
+	first := r.errs[r.decreases[0]]
+	pts := r.sv.Section.Points
+	e := &ParseError{File: first.File, Sheet: first.Sheet, Row: first.Row, Column: first.Column, Name: first.Name, Text: first.Text,
+		Err: fmt.Errorf("%w: the stations decrease throughout (%d of %d steps, from %s to %s): the survey runs from right to left? "+
+			"Stations count from the left bank looking downstream: write the points in the reverse order, or their stations from the left end",
+			subdivide.ErrOverhang, n, r.steps, roundLength(pts[0].Station), roundLength(pts[len(pts)-1].Station))}
+	kept := errorList{}
+	for i, pe := range r.errs {
+		switch {
+		case i == r.decreases[0]:
+			kept = append(kept, e)
+		case !slices.Contains(r.decreases, i):
+			kept = append(kept, pe)
+		}
+	}
+	r.errs = kept
+}
+
+// MinReversedSteps and ReversedFraction say when a survey's decreasing
+// stations are one fault, a survey from right to left, rather than
+// points out of place: at least MinReversedSteps steps decrease, and at
+// least ReversedFraction of the steps (common practice: one or two
+// stations out of place are typing slips).
+const (
+	MinReversedSteps = 3
+	ReversedFraction = 0.8
+)
 
 // add records an error at a cell.
 func (r *sectionReader) add(rec Record, col int, err error) {
@@ -314,7 +425,11 @@ func (r *sectionReader) point(rec Record) {
 		case ok && !(v > 0):
 			r.add(rec, r.cn, fmt.Errorf("roughness %w", ErrNotPositive))
 		case ok && (v < MinN || v > MaxN):
-			r.add(rec, r.cn, fmt.Errorf("roughness %g %w for Manning's n (%g to %g)", v, ErrImplausible, MinN, MaxN))
+			hint := ""
+			if r.cn > 0 && splitPair(r.t.Cell(rec, r.cn-1), r.t.Cell(rec, r.cn)) {
+				hint = fmt.Sprintf(" (%s %s,%s read as two values)", decimalCommaHint, r.t.Cell(rec, r.cn-1), r.t.Cell(rec, r.cn))
+			}
+			r.add(rec, r.cn, fmt.Errorf("roughness %g %w for Manning's n (%g to %g)%s", v, ErrImplausible, MinN, MaxN, hint))
 		case ok:
 			n = v
 			if v > HighN {
@@ -323,10 +438,15 @@ func (r *sectionReader) point(rec Record) {
 		}
 	}
 	pts := r.sv.Section.Points
-	if i := len(pts); i > 0 && okx && x < pts[i-1].Station {
-		r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
-			subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
+	if i := len(pts); i > 0 && okx && r.prevOK {
+		r.steps++
+		if x < pts[i-1].Station {
+			r.decreases = append(r.decreases, len(r.errs))
+			r.add(rec, r.cs, fmt.Errorf("%w (station %s after %s at row %d: one of the two is out of place)",
+				subdivide.ErrOverhang, roundLength(x), roundLength(pts[i-1].Station), r.sv.Rows[i-1]))
+		}
 	}
+	r.prevOK = okx
 	r.sv.Section.Points = append(pts, subdivide.Point{Station: x, Elevation: z})
 	r.ns = append(r.ns, n)
 	r.sv.Rows = append(r.sv.Rows, rec.Row)
@@ -399,6 +519,10 @@ func (r *sectionReader) banks() error {
 		return nil
 	}
 	t, pts, sec := r.t, r.sv.Section.Points, &r.sv.Section
+	if len(r.bankAt) == 1 {
+		rec := r.bankRows[0]
+		return t.At(rec, r.cm, fmt.Errorf("%w, found 1: %s", ErrBankMarks, missingBank(t.Cell(rec, r.cm), pts[r.bankAt[0]].Station)))
+	}
 	if len(r.bankAt) != 2 {
 		return t.At(r.bankRows[len(r.bankRows)-1], r.cm, fmt.Errorf("%w, found %d", ErrBankMarks, len(r.bankAt)))
 	}
@@ -409,6 +533,52 @@ func (r *sectionReader) banks() error {
 	}
 	a, b := r.bankRows[0], r.bankRows[1]
 	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
+}
+
+// unreadBankWarnings warns, when no point is marked bank, of each column
+// the reader does not read whose cells hold bank marks (one of
+// BankWords): its banks are lost unless it is named as the mark column.
+func (r *sectionReader) unreadBankWarnings() {
+	if len(r.bankAt) > 0 {
+		return
+	}
+	t := r.t
+	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote}
+	for c := range t.Header {
+		if slices.Contains(read, c) {
+			continue
+		}
+		var words []string
+		var first Record
+		for _, rec := range t.Records {
+			if _, bank := readBankMark(t.Cell(rec, c)); bank {
+				if len(words) == 0 {
+					first = rec
+				}
+				words = append(words, t.Cell(rec, c))
+			}
+		}
+		if len(words) == 0 {
+			continue
+		}
+		r.sv.Warnings = append(r.sv.Warnings, t.At(first, c, fmt.Errorf(
+			"this column is not read, yet holds %d bank mark(s) (%s), and no bank was found: name it %s (or %s) if it marks the points",
+			len(words), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
+	}
+}
+
+// missingBank says which bank is missing when the one bank mark of a
+// survey is mark, at station x: the side it does not name, or the other
+// bank when it names no side.
+func missingBank(mark string, x float64) string {
+	side, _ := readBankMark(mark)
+	switch side {
+	case leftBank:
+		return fmt.Sprintf("the left bank is marked (station %s), the right bank is missing: mark the right bank's point", roundLength(x))
+	case rightBank:
+		return fmt.Sprintf("the right bank is marked (station %s), the left bank is missing: mark the left bank's point", roundLength(x))
+	}
+	return fmt.Sprintf("the other bank is missing (one bank is marked, station %s): mark the other bank's point", roundLength(x))
 }
 
 // bankLikeWarnings warns, at its cell, of each mark that looks like a

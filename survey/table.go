@@ -356,6 +356,10 @@ type tableBuilder struct {
 	t     *Table
 	lim   Limits
 	cells int
+	// fields is the number of fields of a CSV header line when its last
+	// field is named (0 when it ends in blank fields, or in a sheet): a
+	// row with more fields is refused (ErrSpilledRow).
+	fields int
 }
 
 func newTableBuilder(file, sheet string) (*tableBuilder, error) {
@@ -374,6 +378,9 @@ func (b *tableBuilder) header(rec []string, row int) error {
 		h = h[:len(h)-1]
 	}
 	b.t.Header, b.t.HeaderRow = h, row
+	if b.t.Sheet == "" && len(h) == len(rec) {
+		b.fields = len(rec)
+	}
 	return duplicateColumn(b.t.File, b.t.Sheet, h, row)
 }
 
@@ -408,6 +415,28 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 // ErrBeyondHeader is the cause of a value in a column after the header's
 // last named column (often an unquoted decimal comma that shifts a row).
 var ErrBeyondHeader = errors.New("a value beyond the header's last column")
+
+// ErrSpilledRow is the cause of a CSV row with more fields than its header
+// line, whose last field is named, even when the extra fields are blank: a
+// value holding an unquoted comma (most often a decimal comma, 524,8) has
+// split in two and shifted the rest of the row one column right.
+var ErrSpilledRow = errors.New("more fields than the header line")
+
+// decimalCommaHint is said of a value that looks split by an unquoted
+// decimal comma.
+const decimalCommaHint = "an unquoted decimal comma?"
+
+// lastSplitPair returns the 0-based index of the last cell of rec that,
+// with the cell after it, reads as a number split at a decimal comma
+// (see splitPair), or -1.
+func lastSplitPair(rec []string) int {
+	for i := len(rec) - 2; i >= 0; i-- {
+		if splitPair(strings.TrimSpace(rec[i]), strings.TrimSpace(rec[i+1])) {
+			return i
+		}
+	}
+	return -1
+}
 
 // beyondHeader returns the 0-based column of the first cell of rec at or
 // after width that is not blank, or -1.
@@ -504,11 +533,23 @@ func csvFieldAt(data []byte, start, line, col int) (fieldLine, field int, ok boo
 
 // row adds a data row, keeping only the cells under the header; a value
 // after the header's last named column is an error (ErrBeyondHeader) at
-// its cell, blank cells there being dropped.
+// its cell, blank cells there being dropped, unless the row is a CSV row
+// with more fields than a header line ending in a named column
+// (ErrSpilledRow, at the first field beyond it).
 func (b *tableBuilder) row(rec []string, row int) error {
 	if len(rec) > len(b.t.Header) {
 		if c := beyondHeader(rec, len(b.t.Header)); c >= 0 {
-			return beyondHeaderError(b.t.File, b.t.Sheet, row, c, rec[c])
+			pe := beyondHeaderError(b.t.File, b.t.Sheet, row, c, rec[c])
+			if i := lastSplitPair(rec[:c+1]); b.t.Sheet == "" && i >= 0 {
+				pe.Err = fmt.Errorf("%w (%s %s,%s read as two values?)", pe.Err, decimalCommaHint,
+					strings.TrimSpace(rec[i]), strings.TrimSpace(rec[i+1]))
+			}
+			return pe
+		}
+		if b.fields > 0 && len(rec) > b.fields {
+			return &ParseError{File: b.t.File, Row: row, Column: b.fields + 1,
+				Err: fmt.Errorf("%w (%d fields, the header %d): %s quote a value that holds a comma, and write numbers with a decimal point",
+					ErrSpilledRow, len(rec), b.fields, decimalCommaHint)}
 		}
 		rec = rec[:len(b.t.Header)]
 	}
