@@ -243,6 +243,11 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		}
 	}
 	r.Warnings = append(r.Warnings, r.sameSurveys()...)
+	ids := make([]string, len(r.Rows))
+	for i, row := range r.Rows {
+		ids[i] = row.ID
+	}
+	r.Warnings = append(r.Warnings, OppositeLines(r.Surveys, ids)...)
 	if !r.Site.Known() {
 		r.Site = surveysSite(r.Surveys)
 	}

@@ -3,6 +3,7 @@ package survey
 import (
 	"bytes"
 	"errors"
+	"fmt"
 	"math"
 	"os"
 	"path/filepath"
@@ -787,5 +788,43 @@ func TestReachOtherSheetNamed(t *testing.T) {
 				t.Errorf("error %v, want %q", err, c.want)
 			}
 		})
+	}
+}
+
+// TestReachOppositeLine: a reach of three coordinate surveys across a
+// river flowing south (invented), two shot from the east bank and one
+// from the west with bank marks naming no side, so that its left is the
+// first point surveyed and its banks come out swapped: the reach reader
+// warns of that section alone (its line points 180° from the others').
+func TestReachOppositeLine(t *testing.T) {
+	section := func(north float64, fromEast bool) string {
+		xs := []float64{40, 30, 22, 18, 10, 0}
+		zs := []float64{14, 12, 9, 9.2, 12, 14}
+		marks := []string{"", "bank", "", "", "bank", ""}
+		var b strings.Builder
+		b.WriteString("easting,northing,elevation,mark\n")
+		for k := range xs {
+			i := k
+			if !fromEast {
+				i = len(xs) - 1 - k
+			}
+			fmt.Fprintf(&b, "%g,%g,%g,%s\n", 1000+xs[i], 5000+north, zs[i]-north/1000, marks[i])
+		}
+		return b.String()
+	}
+	files := map[string]string{"a.csv": section(0, true), "b.csv": section(-100, false), "c.csv": section(-200, true),
+		"reach.csv": "section,survey,distance,ws_left,ws_right\nA,a.csv,0,11,11\nB,b.csv,100,10.9,10.9\nC,c.csv,200,10.8,10.8\n"}
+	r, err := ReadReach(filepath.Join(reachFiles(t, files), "reach.csv"), "", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, w := range r.Warnings {
+		if strings.Contains(w, "point") && strings.Contains(w, "swapped") {
+			got = append(got, w)
+		}
+	}
+	if len(got) != 1 || !strings.HasPrefix(got[0], "section B:") {
+		t.Errorf("warnings %q: want one naming section B", r.Warnings)
 	}
 }
