@@ -137,7 +137,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Rating       jsonBWRating      `json:"rating"`
 		Warnings     []string          `json:"warnings"`
 		Caution      string            `json:"caution"`
-		Units        map[string]string `json:"units"`
+		Units        JSONUnits         `json:"units"`
 		Reach        string            `json:"reach"`
 		Program      string            `json:"program"`
 		Expansion    Float             `json:"expansion"`

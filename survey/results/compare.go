@@ -74,7 +74,7 @@ func WriteRatingComparisonJSON(w io.Writer, c *gauged.RatingComparison) error {
 		Kind       string                 `json:"kind"`
 		A          string                 `json:"a"`
 		B          string                 `json:"b"`
-		Units      map[string]string      `json:"units"`
+		Units      JSONUnits              `json:"units"`
 		From       Float                  `json:"from"`
 		To         Float                  `json:"to"`
 		MaxPercent Float                  `json:"max_percent"`
@@ -285,7 +285,7 @@ func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error 
 		Kind     string                  `json:"kind"`
 		A        string                  `json:"a"`
 		B        string                  `json:"b"`
-		Units    map[string]string       `json:"units"`
+		Units    JSONUnits               `json:"units"`
 		Rows     []jsonSectionDifference `json:"rows"`
 		Warnings []string                `json:"warnings"`
 		Caution  string                  `json:"caution"`

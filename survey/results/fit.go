@@ -307,7 +307,7 @@ type jsonControl struct {
 // after the table.
 type jsonFitReport struct {
 	Site          string              `json:"site"`
-	Units         map[string]string   `json:"units"`
+	Units         JSONUnits           `json:"units"`
 	Datum         Float               `json:"datum"`
 	Slope         Float               `json:"slope"`
 	ZeroFlow      *jsonZeroFlow       `json:"zero_flow"`

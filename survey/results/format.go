@@ -119,12 +119,22 @@ func (f Float) MarshalJSON() ([]byte, error) {
 	return strconv.AppendFloat(nil, v, 'f', -1, 64), nil
 }
 
+// JSONUnits is the units block of a JSON report: the unit of each
+// quantity, its keys in the order every report has written them since the
+// first release.
+type JSONUnits struct {
+	Area        string `json:"area"`
+	Discharge   string `json:"discharge"`
+	Length      string `json:"length"`
+	ShearStress string `json:"shear_stress"`
+	System      string `json:"system"`
+	Velocity    string `json:"velocity"`
+}
+
 // UnitNames lists the unit of each quantity for a report header.
-func UnitNames(u rating.Units) map[string]string {
-	return map[string]string{
-		"system": u.String(), "length": u.Length(), "area": u.Area(),
-		"discharge": u.Discharge(), "velocity": u.Velocity(), "shear_stress": u.Stress(),
-	}
+func UnitNames(u rating.Units) JSONUnits {
+	return JSONUnits{System: u.String(), Length: u.Length(), Area: u.Area(),
+		Discharge: u.Discharge(), Velocity: u.Velocity(), ShearStress: u.Stress()}
 }
 
 // writeJSON writes v as indented JSON.

@@ -183,7 +183,7 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 	z := zoneOf(c.UTCOffset)
 	visit := visitOf(c)
 	out := struct {
-		Units    map[string]string  `json:"units"`
+		Units    JSONUnits          `json:"units"`
 		Gaugings []jsonShiftGauging `json:"gaugings"`
 		Visits   []jsonVisit        `json:"visits"`
 		Ratings  []jsonPeriod       `json:"ratings"`

@@ -99,23 +99,23 @@ type jsonUncertainty struct {
 func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 	r := rep.Result
 	out := struct {
-		Method         string            `json:"method"`
-		Discharge      Float             `json:"discharge"`
-		Units          map[string]string `json:"units"`
-		Side           string            `json:"side"`
-		Fall           Float             `json:"fall"`
-		Length         Float             `json:"length"`
-		Slope          Float             `json:"slope,omitempty"`
-		SubreachMin    Float             `json:"subreach_min"`
-		SubreachMax    Float             `json:"subreach_max"`
-		SubreachSpread Float             `json:"subreach_spread"`
-		Sections       []jsonSASection   `json:"sections"`
-		Subreaches     []jsonSubreach    `json:"subreaches"`
-		Checks         []jsonCheck       `json:"checks"`
-		Uncertainty    *jsonUncertainty  `json:"uncertainty"`
-		Warnings       []string          `json:"warnings"`
-		Caution        string            `json:"caution"`
-		Site           *jsonSite         `json:"site"`
+		Method         string           `json:"method"`
+		Discharge      Float            `json:"discharge"`
+		Units          JSONUnits        `json:"units"`
+		Side           string           `json:"side"`
+		Fall           Float            `json:"fall"`
+		Length         Float            `json:"length"`
+		Slope          Float            `json:"slope,omitempty"`
+		SubreachMin    Float            `json:"subreach_min"`
+		SubreachMax    Float            `json:"subreach_max"`
+		SubreachSpread Float            `json:"subreach_spread"`
+		Sections       []jsonSASection  `json:"sections"`
+		Subreaches     []jsonSubreach   `json:"subreaches"`
+		Checks         []jsonCheck      `json:"checks"`
+		Uncertainty    *jsonUncertainty `json:"uncertainty"`
+		Warnings       []string         `json:"warnings"`
+		Caution        string           `json:"caution"`
+		Site           *jsonSite        `json:"site"`
 	}{
 		Method: r.Method, Discharge: Float(r.Discharge), Units: UnitNames(r.Units), Side: r.Side.String(),
 		Fall: Float(r.Fall), Length: Float(r.Length), Slope: Float(r.Slope),

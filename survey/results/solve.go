@@ -48,58 +48,58 @@ type solveEnergy struct {
 // leading keys are a contract: normal_stage, normal_depth,
 // critical_stages, froude, regime.
 type solveDischargeJSON struct {
-	NormalStage    Float             `json:"normal_stage"`
-	NormalDepth    Float             `json:"normal_depth"`
-	CriticalStages []Float           `json:"critical_stages"`
-	CriticalDepths []Float           `json:"critical_depths"`
-	Froude         Float             `json:"froude"`
-	Regime         *string           `json:"regime"`
-	Section        string            `json:"section"`
-	Units          map[string]string `json:"units"`
-	Discharge      Float             `json:"discharge"`
-	Slope          Float             `json:"slope"`
-	Composite      string            `json:"composite_roughness"`
-	NormalStages   []solveNormal     `json:"normal_stages"`
-	Critical       []solveCritical   `json:"critical"`
-	MinEnergyStage Float             `json:"min_specific_energy_stage"`
-	MinEnergy      Float             `json:"min_specific_energy"`
-	ClosedConduit  bool              `json:"closed_conduit"`
-	FullDischarge  Float             `json:"full_discharge"`
-	PeakDischarge  Float             `json:"peak_discharge"`
-	PeakStage      Float             `json:"peak_discharge_stage"`
-	EnergyMinima   []solveEnergy     `json:"specific_energy_minima"`
-	Warnings       []string          `json:"warnings"`
-	Caution        string            `json:"caution"`
-	Site           *jsonSite         `json:"site"`
+	NormalStage    Float           `json:"normal_stage"`
+	NormalDepth    Float           `json:"normal_depth"`
+	CriticalStages []Float         `json:"critical_stages"`
+	CriticalDepths []Float         `json:"critical_depths"`
+	Froude         Float           `json:"froude"`
+	Regime         *string         `json:"regime"`
+	Section        string          `json:"section"`
+	Units          JSONUnits       `json:"units"`
+	Discharge      Float           `json:"discharge"`
+	Slope          Float           `json:"slope"`
+	Composite      string          `json:"composite_roughness"`
+	NormalStages   []solveNormal   `json:"normal_stages"`
+	Critical       []solveCritical `json:"critical"`
+	MinEnergyStage Float           `json:"min_specific_energy_stage"`
+	MinEnergy      Float           `json:"min_specific_energy"`
+	ClosedConduit  bool            `json:"closed_conduit"`
+	FullDischarge  Float           `json:"full_discharge"`
+	PeakDischarge  Float           `json:"peak_discharge"`
+	PeakStage      Float           `json:"peak_discharge_stage"`
+	EnergyMinima   []solveEnergy   `json:"specific_energy_minima"`
+	Warnings       []string        `json:"warnings"`
+	Caution        string          `json:"caution"`
+	Site           *jsonSite       `json:"site"`
 }
 
 // solveAreaJSON is the JSON of a solve report for a flow area.
 type solveAreaJSON struct {
-	Section         string            `json:"section"`
-	Units           map[string]string `json:"units"`
-	Area            Float             `json:"area"`
-	Stage           Float             `json:"stage"`
-	Depth           Float             `json:"depth"`
-	TopWidth        Float             `json:"top_width"`
-	WettedPerimeter Float             `json:"wetted_perimeter"`
-	HydraulicRadius Float             `json:"hydraulic_radius"`
-	Full            bool              `json:"full"`
-	Warnings        []string          `json:"warnings"`
-	Caution         string            `json:"caution"`
-	Site            *jsonSite         `json:"site"`
+	Section         string    `json:"section"`
+	Units           JSONUnits `json:"units"`
+	Area            Float     `json:"area"`
+	Stage           Float     `json:"stage"`
+	Depth           Float     `json:"depth"`
+	TopWidth        Float     `json:"top_width"`
+	WettedPerimeter Float     `json:"wetted_perimeter"`
+	HydraulicRadius Float     `json:"hydraulic_radius"`
+	Full            bool      `json:"full"`
+	Warnings        []string  `json:"warnings"`
+	Caution         string    `json:"caution"`
+	Site            *jsonSite `json:"site"`
 }
 
 // solveStageJSON is the JSON of a solve report for a stage.
 type solveStageJSON struct {
-	Section           string            `json:"section"`
-	Units             map[string]string `json:"units"`
-	Stage             Float             `json:"stage"`
-	CriticalDischarge Float             `json:"critical_discharge"`
-	Slope             Float             `json:"slope"`
-	UniformDischarge  Float             `json:"uniform_discharge"`
-	Warnings          []string          `json:"warnings"`
-	Caution           string            `json:"caution"`
-	Site              *jsonSite         `json:"site"`
+	Section           string    `json:"section"`
+	Units             JSONUnits `json:"units"`
+	Stage             Float     `json:"stage"`
+	CriticalDischarge Float     `json:"critical_discharge"`
+	Slope             Float     `json:"slope"`
+	UniformDischarge  Float     `json:"uniform_discharge"`
+	Warnings          []string  `json:"warnings"`
+	Caution           string    `json:"caution"`
+	Site              *jsonSite `json:"site"`
 }
 
 // nullIfZero is a slope that was not given: null.
