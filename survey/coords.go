@@ -25,7 +25,7 @@ const (
 
 // Ways the left end of a coordinate survey was told apart from the right.
 const (
-	LeftFromPins    = "the pins marked left pin and right pin"
+	LeftFromPins    = "the end pins, marked left and right"
 	LeftFromFlow    = "the flow direction given"
 	LeftFromOrder   = "the order of the survey (its first point is the left end)"
 	LeftFromBanks   = "the bank marks naming their sides (the survey's order has them on the other sides)"
