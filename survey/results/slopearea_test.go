@@ -191,6 +191,17 @@ func TestSummaryDischargesPlain(t *testing.T) {
 	if want := "wrote out.txt: slope-area peak discharge 1362 ft3/s (90 % band 1178 to 1558 ft3/s), 0 of 0 checks warn\n"; !strings.HasPrefix(b.String(), want) {
 		t.Errorf("got  %q\nwant %q", b.String(), want)
 	}
+	// Warnings beside the checks (one survey read for two sections) are
+	// counted on the line, so "0 of 0 checks warn" does not read as all
+	// clear.
+	rep.Warnings = []string{"sections B and C read the same survey file b.csv"}
+	b.Reset()
+	if err := results.WriteSlopeAreaSummary(&b, rep, "out.txt"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "0 of 0 checks warn; 1 warning below\nwarning: sections B and C"; !strings.Contains(b.String(), want) {
+		t.Errorf("got  %q\nwant %q in it", b.String(), want)
+	}
 	tab := rating.Table{Units: rating.US, Slope: 0.002, Rows: []rating.Row{{Stage: 400.6, Discharge: 0}, {Stage: 411, Discharge: 4184.2}}}
 	b.Reset()
 	if err := results.WriteRatingSummary(&b, rating.RatingReport{Table: tab}, "r.csv"); err != nil {

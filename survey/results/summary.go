@@ -124,7 +124,9 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 }
 
 // WriteSlopeAreaSummary says that a slope-area report was written to
-// path: the peak, its band and how many checks warn.
+// path: the peak, its band, how many checks warn and how many warnings
+// follow (a check is one of the method's own tests; a warning may be of
+// the inputs, such as one survey read for two sections).
 func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 	bw := bufio.NewWriter(w)
 	r := rep.Result
@@ -138,7 +140,11 @@ func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 			warn++
 		}
 	}
-	fmt.Fprintf(bw, ", %d of %s %s\n", warn, counted(len(r.Checks), "check", "checks"), agree(warn, "warns", "warn"))
+	fmt.Fprintf(bw, ", %d of %s %s", warn, counted(len(r.Checks), "check", "checks"), agree(warn, "warns", "warn"))
+	if n := len(rep.Warnings); n > 0 { // warnings beside the checks (a survey read twice, marks rising)
+		fmt.Fprintf(bw, "; %s below", counted(n, "warning", "warnings"))
+	}
+	fmt.Fprintln(bw)
 	return endSummary(bw, rep.Warnings)
 }
 
