@@ -6,9 +6,12 @@
 // CSV and JSON columns and keys are a contract with scripts: the
 // documented ones come first, in order, and later versions add after them.
 // JSON is encoded from structs so keys keep that order; undefined values
-// are null in JSON and empty cells in CSV. Stages and lengths are written
-// to LengthDecimals decimals, other values to six significant digits; a
-// results workbook stores its numbers so too (its number formats choose
-// how many of those figures show), so its cells hold the CSV's figures
-// and no float noise (0.6, not 0.600000000000001).
+// are null in JSON and empty cells in CSV. In CSV, stages and lengths are
+// written to LengthDecimals decimals, other values to six significant
+// digits; a results workbook stores its numbers so too (its number formats
+// choose how many of those figures show), so its cells hold the CSV's
+// figures and no float noise (0.6, not 0.600000000000001). JSON, read by
+// programs, carries each number whole: the shortest decimal that reads
+// back to the computed value (Float), so a script loses nothing to
+// rounding it did not ask for.
 package results
