@@ -112,7 +112,8 @@ func DecimalMean(a, b float64) float64 {
 // decimal, never with an exponent: for n = 4, 1362.4 as 1362, 13621 as
 // 13620 and 0.052341 as 0.05234. It is the form of a
 // discharge in summary lines and figure footnotes, where 1.36e+03 would
-// be read by few. Zero is "0" (without a sign); NaN and ±Inf are "-".
+// be read by few. Zero is "0" (without a sign); NaN and ±Inf are "-"; a
+// value of PlainLimit or more is written with a power of ten, 3.3×10^33.
 func PlainFigures(v float64, n int) string {
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
@@ -123,9 +124,24 @@ func PlainFigures(v float64, n int) string {
 	// Rounding through the exponent form rounds at the n-th figure
 	// whatever the magnitude; the shortest plain form of the result then
 	// carries no float noise (1180, not 1179.9999999999998).
-	r, err := strconv.ParseFloat(strconv.FormatFloat(v, 'e', max(n, 1)-1, 64), 64)
+	e := strconv.FormatFloat(v, 'e', max(n, 1)-1, 64)
+	r, err := strconv.ParseFloat(e, 64)
 	if err != nil {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
+	if math.Abs(r) >= PlainLimit { // no quantity of a river: a degenerate fit's
+		mant, exp, _ := strings.Cut(e, "e")
+		x, _ := strconv.Atoi(exp)
+		if strings.Contains(mant, ".") {
+			mant = strings.TrimRight(strings.TrimRight(mant, "0"), ".")
+		}
+		return mant + "×10^" + strconv.Itoa(x)
+	}
 	return strconv.FormatFloat(r, 'f', -1, 64)
 }
+
+// PlainLimit is the size from which PlainFigures writes a power of ten
+// (3.3×10^33) rather than every digit: no quantity the project computes
+// comes near it, so such a value is a degenerate estimate (a posterior
+// standard deviation without bound), and 34 digits would hide that.
+const PlainLimit = 1e15

@@ -77,6 +77,9 @@ func TestPlainFigures(t *testing.T) {
 		{1362.4, 3, "1360"},
 		{math.NaN(), 4, "-"},
 		{math.Inf(1), 4, "-"},
+		{3.3e33, 2, "3.3×10^33"},
+		{-2e16, 4, "-2×10^16"},
+		{9.99e14, 3, "999000000000000"},
 	} {
 		if got := PlainFigures(tc.v, tc.n); got != tc.want {
 			t.Errorf("PlainFigures(%g, %d) = %q, want %q", tc.v, tc.n, got, tc.want)
