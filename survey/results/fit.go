@@ -550,9 +550,9 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	bw.WriteString(siteLine(r.Provenance))
 	switch {
 	case r.Hydraulic != nil && r.DatumGiven:
-		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating%s at slope %s\n", rating.DatumTerm(r.Datum), L, ofSection(r), plainSig(r.Slope, shortest))
+		p("Gauge datum: elevation = gauge height %s %s (--datum); hydraulic rating%s at slope %s\n", rating.DatumTerm(r.Datum), L, ofSection(r), sig(r.Slope, shortest))
 	case r.Hydraulic != nil:
-		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %s\n", ofSection(r), plainSig(r.Slope, shortest))
+		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %s\n", ofSection(r), sig(r.Slope, shortest))
 	case r.HydraulicTable != nil:
 		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
 	default:
@@ -619,17 +619,17 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		case j > 0:
 			join = ", replaces the one below"
 		}
-		b := fmt.Sprintf("%.4f ± %s %s", c.B, plainSig(c.BSE, 2), L)
+		b := fmt.Sprintf("%.4f ± %s %s", c.B, sig(c.BSE, 2), L)
 		if math.IsNaN(c.BSE) {
 			b = fmt.Sprintf("%.4f %s (held)", c.B, L)
 		}
 		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %s to %s expected)\n",
-			j+1, c.Kind, join, segmentStages(f, j, L), plainSig(c.A, 5), plainSig(c.ASE, 2), b, c.C, plainSig(c.CSE, 2), plainSig(lo, 3), plainSig(hi, 3))
+			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), sig(lo, 3), sig(hi, 3))
 		if j > 0 {
 			if f.BreaksFixed || math.IsNaN(c.FromSE) {
 				p("    breakpoint %.4f %s%s\n", c.From, L, map[bool]string{true: " (given)", false: " (no standard error)"}[f.BreaksFixed])
 			} else {
-				p("    breakpoint %.4f ± %s %s\n", c.From, plainSig(c.FromSE, 2), L)
+				p("    breakpoint %.4f ± %s %s\n", c.From, sig(c.FromSE, 2), L)
 			}
 		}
 		if src := priorSource(f, j); src != "" {
@@ -645,12 +645,12 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	}
 	p("  %s\n", standardErrorWords(f))
 	if m := r.MoreControls; m.Made {
-		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, plainSig(m.P, 3), plainSig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
+		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
 	}
 	if r.Prior != nil {
 		p("  prior rating (means of the priors, before the gaugings):")
 		for j, c := range r.Prior.Controls {
-			p(" control %d Q = %s·(h − %.4f)^%.3f from %.3f %s;", j+1, plainSig(c.A, 4), c.B, c.C, c.From, L)
+			p(" control %d Q = %s·(h − %.4f)^%.3f from %.3f %s;", j+1, sig(c.A, 4), c.B, c.C, c.From, L)
 		}
 		p("\n")
 	}
@@ -690,19 +690,19 @@ func standardErrorUndefined(f *gauged.ControlFit) string {
 // writePosterior writes the posterior summaries.
 func writePosterior(p printer, post *gauged.Posterior) {
 	p("\nPosterior (%d chains of %d draws, pilot %d, seed %d): acceptance %.2f, R̂ max %.3f (%s; chains agree at ≤ %s), least effective sample size %.0f (%s)\n",
-		post.Chains, post.Draws, post.Pilot, post.Seed, post.Acceptance, post.RHatMax, post.RHatParam, plainSig(gauged.RHatLimit, shortest), post.ESSMin, post.ESSParam)
+		post.Chains, post.Draws, post.Pilot, post.Seed, post.Acceptance, post.RHatMax, post.RHatParam, sig(gauged.RHatLimit, shortest), post.ESSMin, post.ESSParam)
 	p("  likelihood: %s\n", post.Likelihood)
 	p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", "parameter", "mean", "sd", "2.5 %", "median", "97.5 %", "prior mean", "prior sd", "R̂", "ESS")
 	for _, s := range post.Parameters {
-		p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", s.Name, plainSig(s.Mean, 5), plainSig(s.SD, 3), plainSig(s.P2_5, 5), plainSig(s.P50, 5), plainSig(s.P97_5, 5),
-			plainSig(s.PriorMean, 5), plainSig(s.PriorSD, 3), fixed(s.RHat, 3), fixed(s.ESS, 0))
+		p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", s.Name, sig(s.Mean, 5), sig(s.SD, 3), sig(s.P2_5, 5), sig(s.P50, 5), sig(s.P97_5, 5),
+			sig(s.PriorMean, 5), sig(s.PriorSD, 3), fixed(s.RHat, 3), fixed(s.ESS, 0))
 	}
 }
 
 // writeFitChecks writes the ISO tests and Johnson's check.
 func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L := r.Units.Length()
-	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; failed below p = %s):\n", plainSig(gauged.RelationTestLevel, shortest))
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; failed below p = %s):\n", sig(gauged.RelationTestLevel, shortest))
 	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		verdict := "passes"
 		if t.Failed {
@@ -711,11 +711,11 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(t.P) {
 			verdict = "not made"
 		}
-		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, plainSig(t.Statistic, 4), plainSig(t.P, 3), verdict)
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
 	}
 	if j := f.Johnson; j.OK {
 		p("Johnson's three-point check of the first offset: e = %.4f %s (gauge heights %.3f, %.3f, %.3f %s of %s, %s, %s %s); fitted B = %.4f %s\n",
-			j.ZeroFlow, L, j.G1, j.G2, j.G3, L, plainSig(j.Q1, 4), plainSig(j.Q2, 4), plainSig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
+			j.ZeroFlow, L, j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
 	} else {
 		p("Johnson's three-point check of the first offset: not made (%s)\n", j.Note)
 	}
@@ -737,18 +737,18 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 	p("\n")
 	var reasons []string
 	for i, g := range r.Gaugings {
-		p("  %-25s %9.3f %10s %-9s %5s", gauged.TimeText(g.Time, r.UTCOffset), g.Stage, plainSig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
+		p("  %-25s %9.3f %10s %-9s %5s", gauged.TimeText(g.Time, r.UTCOffset), g.Stage, sig(g.Discharge, 5), g.Quality, fixed(g.UncertaintyPercent(), 1))
 		reason := ""
 		if r.Fit != nil {
 			res := r.Fit.Residuals[i]
-			p(" %10s %7s%s %8s", plainSig(res.Fitted, 5), fixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fixed(res.Shift, 3))
+			p(" %10s %7s%s %8s", sig(res.Fitted, 5), fixed(res.DeparturePercent, 1), fitStar(res.OutsideBand), fixed(res.Shift, 3))
 			reason = res.ExcludedReason
 		} else {
 			reason = r.Selection.Reason(g)
 		}
 		if r.Comparison != nil {
 			c := r.Comparison.Residuals[i]
-			p(" %10s %7s%s %8s", plainSig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3))
+			p(" %10s %7s%s %8s", sig(c.Fitted, 5), fixed(c.DeparturePercent, 1), fitStar(c.OutsideBand), fixed(c.Shift, 3))
 		}
 		if r.Calibration != nil {
 			f, n := calPoint(r, i)
@@ -794,7 +794,7 @@ func writeCalibration(p printer, r *gauged.Report) {
 func writeTableRows(p printer, r *gauged.Report, t *gauged.ControlTable) {
 	L, Q := r.Units.Length(), r.Units.Discharge()
 	p("\nRating table (gauge height %s, discharge %s; x = extrapolated, outside the gaugings; × = discharge over the largest gauged, %s %s):\n",
-		L, Q, plainSig(t.MaxDischarge, 5), Q)
+		L, Q, sig(t.MaxDischarge, 5), Q)
 	p("  bands: %s\n", t.BandNote)
 	if t.AboveNote != "" {
 		p("  %s\n", t.AboveNote)
@@ -808,25 +808,14 @@ func writeTableRows(p printer, r *gauged.Report, t *gauged.ControlTable) {
 		if row.Extrapolated() {
 			mark = "x"
 		}
-		p("  %9.3f %11s %11s %11s %11s %11s %6s %s %s\n", row.Stage, plainSig(row.Discharge, 5), plainSig(row.ParametricLower, 5), plainSig(row.ParametricUpper, 5),
-			plainSig(row.TotalLower, 5), plainSig(row.TotalUpper, 5), fixedOrBlank(row.Multiple, 2), mark, row.Basis)
+		p("  %9.3f %11s %11s %11s %11s %11s %6s %s %s\n", row.Stage, sig(row.Discharge, 5), sig(row.ParametricLower, 5), sig(row.ParametricUpper, 5),
+			sig(row.TotalLower, 5), sig(row.TotalUpper, 5), fixedOrBlank(row.Multiple, 2), mark, row.Basis)
 	}
 }
 
 // shortest is enough significant figures for plainSig to write the
 // shortest decimal that reads back to a float64, as %g does.
 const shortest = 17
-
-// plainSig formats v to n significant figures in plain decimal
-// (rating.PlainFigures), "-" when undefined, a zero without its sign: the
-// fit's reports and summary never write a figure with an exponent
-// (1.12e-15, 7e+02), which few readers of a rating read at a glance.
-func plainSig(v float64, n int) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "-"
-	}
-	return unsignedZero(rating.PlainFigures(v, n))
-}
 
 // fixedOrBlank formats v with n decimals, blank when undefined.
 func fixedOrBlank(v float64, n int) string {

@@ -208,7 +208,7 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 	for j, c := range f.Controls {
 		p := fmt.Sprintf("control %d: ", j+1)
 		lo, hi := exponentBounds(f, j)
-		add(p+"kind and joint", fmt.Sprintf("%s, %s (exponents %s to %s expected)", c.Kind, c.Joint, plainSig(lo, 3), plainSig(hi, 3)), "")
+		add(p+"kind and joint", fmt.Sprintf("%s, %s (exponents %s to %s expected)", c.Kind, c.Joint, sig(lo, 3), sig(hi, 3)), "")
 		add(p+"stages", segmentStages(f, j, ""), L)
 		add(p+"coefficient A", num("0.00000", c.A), "")
 		add(p+"uncertainty of A", num("0.00000", c.ASE), "")
@@ -228,10 +228,10 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("degrees of freedom of the standard error of estimate", f.StandardErrorDF, "")
 	}
 	if m := r.MoreControls; m.Made {
-		add("one more control", fmt.Sprintf("F = %.2f, p = %s (poor fit below p = %s)", m.F, plainSig(m.P, 3), plainSig(gauged.PoorFitLevel, shortest)), "")
+		add("one more control", fmt.Sprintf("F = %.2f, p = %s (poor fit below p = %s)", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest)), "")
 	}
 	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
-		add("ISO 1100-2 "+t.Name+" test", fmt.Sprintf("n %d, statistic %s, p = %s, failed %v", t.N, plainSig(t.Statistic, 4), plainSig(t.P, 3), t.Failed), "")
+		add("ISO 1100-2 "+t.Name+" test", fmt.Sprintf("n %d, statistic %s, p = %s, failed %v", t.N, sig(t.Statistic, 4), sig(t.P, 3), t.Failed), "")
 	}
 	if p := f.Posterior; p != nil {
 		add("largest R̂ ("+p.RHatParam+")", num("0.000", p.RHatMax), "")

@@ -144,12 +144,13 @@ func writeJSON(w io.Writer, v any) error {
 	return enc.Encode(v)
 }
 
-// sig formats v to n significant figures, "-" when undefined.
+// sig formats v to n significant figures in plain decimal
+// (rating.PlainFigures: 13620, not 1.362e+04), "-" when undefined.
 func sig(v float64, n int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "-"
 	}
-	return unsignedZero(fmt.Sprintf("%.*g", n, v))
+	return unsignedZero(rating.PlainFigures(v, n))
 }
 
 // fixed formats v with n decimals, "-" when undefined; a value that rounds

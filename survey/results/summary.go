@@ -114,7 +114,7 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	if t := r.Table; t != nil && len(t.Rows) > 0 {
 		top := t.Rows[len(t.Rows)-1]
 		fmt.Fprintf(bw, "  table to %.3f %s: %s %s, total 95 %% band %s to %s",
-			top.Stage, r.Units.Length(), plainSig(top.Discharge, 4), r.Units.Discharge(), plainSig(top.TotalLower, 4), plainSig(top.TotalUpper, 4))
+			top.Stage, r.Units.Length(), sig(top.Discharge, 4), r.Units.Discharge(), sig(top.TotalLower, 4), sig(top.TotalUpper, 4))
 		if !math.IsNaN(top.Multiple) {
 			fmt.Fprintf(bw, " (%.1f times the largest gauged discharge)", top.Multiple)
 		}
