@@ -62,7 +62,7 @@ func TestFixedUnsignedZero(t *testing.T) {
 		{"blank or fixed, small negative", fixedOrBlank(-0.00001, 4), "0.0000"},
 		{"significant digits, negative zero", sig(math.Copysign(0, -1), 4), "0"},
 		{"significant digits, small negative", sig(-1e-9, 4), "-0.000000001"}, // plain decimal, no exponent, as every report writes
-		{"significant digits, large", sig(13621, 4), "13620"}, // a large river's discharge, not 1.362e+04
+		{"significant digits, large", sig(13621, 4), "13620"},                 // a large river's discharge, not 1.362e+04
 	} {
 		if tc.got != tc.want {
 			t.Errorf("%s: %q, want %q", tc.name, tc.got, tc.want)
