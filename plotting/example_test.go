@@ -31,5 +31,5 @@ func ExampleRating() {
 	}
 	// Output:
 	// 2 left out of the log-log panel
-	// log–log panel: 1 gauging(s) at or below the gauge height of zero flow (1.00 m) or without positive discharge left out
+	// log–log panel: 1 gauging at or below the gauge height of zero flow (1.00 m) or without positive discharge left out
 }

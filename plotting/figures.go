@@ -192,7 +192,7 @@ func FitPlot(rep *gauged.Report, site string) RatingPlot {
 		if f.Method == gauged.Bayesian {
 			method = "Bayesian"
 		}
-		sub = append(sub, fmt.Sprintf("%s fit of %d control(s), standard error %.1f %%", method, len(f.Controls), f.StandardErrorPercent))
+		sub = append(sub, fmt.Sprintf("%s fit of %s, standard error %.1f %%", method, rating.Counted(len(f.Controls), "control", "controls"), f.StandardErrorPercent))
 	}
 	for i, g := range rep.Gaugings {
 		pg := Gauging{Stage: g.Stage, Discharge: g.Discharge, Quality: g.Quality, Uncertainty: g.UncertaintyPercent()}

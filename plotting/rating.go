@@ -168,7 +168,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	var res Result
 	d, dropped := cleanRatingLines(r)
 	if dropped > 0 {
-		res.Warnings = append(res.Warnings, fmt.Sprintf("%d gauging(s) with a missing stage or discharge left out", dropped))
+		res.Warnings = append(res.Warnings, fmt.Sprintf("%s with a missing stage or discharge left out", rating.Counted(dropped, "gauging", "gaugings")))
 	}
 	if len(d.hyd)+len(d.fit)+len(d.ext)+len(d.gaugings) == 0 {
 		return res, fmt.Errorf("%w: the rating figure needs a curve or gaugings", ErrNoData)
@@ -331,13 +331,13 @@ func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
 	res.Omitted = omitted + gOut
 	if gOut > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"log–log panel: %d gauging(s) at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
-			gOut, fmtStage(e), un.length))
+			"log–log panel: %s at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
+			rating.Counted(gOut, "gauging", "gaugings"), fmtStage(e), un.length))
 	}
 	if warned > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
-			"log–log panel: %d rating point(s) with flow at or below the gauge height of zero flow (%s %s), or with negative discharge, left out (dry points below it are left out unsaid)",
-			warned, fmtStage(e), un.length))
+			"log–log panel: %s with flow at or below the gauge height of zero flow (%s %s), or with negative discharge, left out (dry points below it are left out unsaid)",
+			rating.Counted(warned, "rating point", "rating points"), fmtStage(e), un.length))
 	}
 }
 

@@ -351,8 +351,9 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 		p.X.Min, p.X.Max = lo, hi
 	}
 	fig := figure{
-		title:    titleOf(site, res.Name, "discharge record"),
-		subtitle: fmt.Sprintf("%d readings; %d rating period(s), %d shift diagram(s); gaps longer than %s not bridged", len(res.Units), len(res.Periods), len(res.Shifts), record.FormatDuration(res.MaxGap)),
+		title: titleOf(site, res.Name, "discharge record"),
+		subtitle: fmt.Sprintf("%s; %s, %s; gaps longer than %s not bridged", rating.Counted(len(res.Units), "reading", "readings"),
+			rating.Counted(len(res.Periods), "rating period", "rating periods"), rating.Counted(len(res.Shifts), "shift diagram", "shift diagrams"), record.FormatDuration(res.MaxGap)),
 		foot: []string{"Provisional: a computed record is provisional until reviewed; check the shifts, the gaps and every flagged value.",
 			DefaultCaution},
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},

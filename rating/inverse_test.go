@@ -616,7 +616,7 @@ func TestConduitFallingBranchWords(t *testing.T) {
 		stages     []float64
 		want, lack []string
 	}{
-		{"pipe", pipe, []float64{0.3, 0.5, 0.56, 0.58, 0.6}, []string{"at 2 stage(s), from 0.5800 m up to the crown at 0.6000 m", "as the crown closes",
+		{"pipe", pipe, []float64{0.3, 0.5, 0.56, 0.58, 0.6}, []string{"at 2 stages, from 0.5800 m up to the crown at 0.6000 m", "as the crown closes",
 			"0.938 of its diameter 0.6 m", fmt.Sprintf("%.4g m3/s (flowing just full)", full)}, []string{"bank stations"}},
 		{"compound", compound, []float64{1.9, 2.0, 2.05, 2.1, 3.5}, []string{"the subdivision may not suit the section; check bank stations and n"}, []string{"crown"}},
 	} {

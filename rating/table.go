@@ -267,8 +267,8 @@ func PoolWarnings(pools, pondedStages int, ponded float64, g subdivide.Options, 
 			"at some stages the water stands in %d separate pools and all of them are counted as flowing; water in a pocket behind higher ground stores but does not convey in steady flow", pools)}
 	case pondedStages > 0:
 		return []string{fmt.Sprintf(
-			"at %d stage(s) water stands in pockets behind higher ground, apart from the main channel (up to %.4g %s, flagged %s): it is left out as not flowing until the ground between is overtopped",
-			pondedStages, ponded, u.Area(), FlagPools)}
+			"at %s water stands in pockets behind higher ground, apart from the main channel (up to %.4g %s, flagged %s): it is left out as not flowing until the ground between is overtopped",
+			Counted(pondedStages, "stage", "stages"), ponded, u.Area(), FlagPools)}
 	}
 	return nil
 }
@@ -306,8 +306,8 @@ func conveyanceDropWarning(g subdivide.Geometry, rows []Row, n int, opt Options)
 	}
 	c, pipe := inner.(*subdivide.Conduit)
 	if !pipe {
-		return fmt.Sprintf("conveyance falls as the stage rises at %d stage(s) (flagged %s): the subdivision may not suit the section; check bank stations and n",
-			n, FlagConveyanceDrop)
+		return fmt.Sprintf("conveyance falls as the stage rises at %s (flagged %s): the subdivision may not suit the section; check bank stations and n",
+			Counted(n, "stage", "stages"), FlagConveyanceDrop)
 	}
 	L, Q := opt.Units.Length(), opt.Units.Discharge()
 	from := math.Inf(1)
@@ -325,10 +325,10 @@ func conveyanceDropWarning(g subdivide.Geometry, rows []Row, n int, opt Options)
 			between = fmt.Sprintf("%.4g %s (flowing just full) and %.4g %s", full.Discharge, Q, q, Q)
 		}
 	}
-	return fmt.Sprintf("conveyance falls as the stage rises at %d stage(s), from %.4f %s up to the crown at %.4f %s (flagged %s): "+
+	return fmt.Sprintf("conveyance falls as the stage rises at %s, from %.4f %s up to the crown at %.4f %s (flagged %s): "+
 		"the pipe's conveyance is greatest %s and falls above it as the crown closes (the wetted perimeter grows faster than the area), "+
 		"so each discharge between %s is carried at two stages",
-		n, from, L, c.Top(), L, FlagConveyanceDrop, peak, between)
+		Counted(n, "stage", "stages"), from, L, c.Top(), L, FlagConveyanceDrop, peak, between)
 }
 
 // flagConveyanceDrops flags rows whose conveyance is below that of a lower

@@ -87,7 +87,7 @@ func TestMarkColumnNames(t *testing.T) {
 		t.Errorf("mark and code: %v, want ErrAliasColumns", err)
 	}
 	sv, err := ParseSection(strings.NewReader("station,elevation,pt\n"+stations), "s.csv", SectionOptions{})
-	if err != nil || sv.Section.HasBanks || len(sv.Warnings) != 1 || !strings.Contains(sv.Warnings[0], `s.csv:3:3: pt "LTOB": this column is not read, yet holds 2 bank mark(s) (LTOB, RTOB), and no bank was found`) {
+	if err != nil || sv.Section.HasBanks || len(sv.Warnings) != 1 || !strings.Contains(sv.Warnings[0], `s.csv:3:3: pt "LTOB": this column is not read, yet holds 2 bank marks (LTOB, RTOB), and no bank was found`) {
 		t.Errorf("unread column: %v, %q", err, sv.Warnings)
 	}
 }

@@ -243,9 +243,9 @@ func fallingDischarge(t *Table, rows []rating.Row, at []int) string {
 		return ""
 	}
 	a, b := rows[first-1], rows[first]
-	return fmt.Sprintf("%s: discharge falls as stage rises at %d row(s), the first from %g at %g (row %d) to %g at %g: "+
+	return fmt.Sprintf("%s: discharge falls as stage rises at %s, the first from %g at %g (row %d) to %g at %g: "+
 		"a rating's discharge rises with stage; check the table (a section's conveyance can drop where a floodplain starts to wet)",
-		where(t, at[first]), n, a.Discharge, a.Stage, at[first-1], b.Discharge, b.Stage)
+		where(t, at[first]), rating.Counted(n, "row", "rows"), a.Discharge, a.Stage, at[first-1], b.Discharge, b.Stage)
 }
 
 // uniformSlope returns the friction slope (Q/K)² shared by every row with

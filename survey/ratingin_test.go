@@ -228,8 +228,8 @@ func TestRatingFallingDischarge(t *testing.T) {
 	for _, tc := range []struct {
 		body, want string
 	}{
-		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n4,5,3\n", "r.csv:4: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 3) to 2 at 3"},
-		{"stage,discharge,depth\n1,0,0\n\n2,3,1\n\n3,2,2\n4,5,3\n", "r.csv:6: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 4) to 2 at 3"},
+		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,2,2\n4,5,3\n", "r.csv:4: discharge falls as stage rises at 1 row, the first from 3 at 2 (row 3) to 2 at 3"},
+		{"stage,discharge,depth\n1,0,0\n\n2,3,1\n\n3,2,2\n4,5,3\n", "r.csv:6: discharge falls as stage rises at 1 row, the first from 3 at 2 (row 4) to 2 at 3"},
 		{"stage,discharge,depth\n1,0,0\n2,3,1\n3,3,2\n4,5,3\n", ""},
 	} {
 		tab, err := RatingFromTable(mustCSV(t, tc.body), UnitChoice{})
@@ -253,7 +253,7 @@ func TestRatingWarningsInSheet(t *testing.T) {
 		t.Fatal(err)
 	}
 	got := strings.Join(r.Warnings, "\n")
-	for _, want := range []string{"field.xlsx['XS-2'] row 1: no depth column", "field.xlsx['XS-2'] row 4: discharge falls as stage rises at 1 row(s), the first from 3 at 2 (row 3)"} {
+	for _, want := range []string{"field.xlsx['XS-2'] row 1: no depth column", "field.xlsx['XS-2'] row 4: discharge falls as stage rises at 1 row, the first from 3 at 2 (row 3)"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("warnings %q, want %q", got, want)
 		}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 	"time"
 
@@ -421,12 +422,12 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 	if len(b.out.Stages.Time) == 0 {
 		err := ErrEmpty
 		if b.out.Blank > 0 {
-			err = fmt.Errorf("%w: the stage of each of its %d row(s) with a time is blank", ErrEmpty, b.out.Blank)
+			err = fmt.Errorf("%w: the stage of %s with a time is blank", ErrEmpty, rating.Agree(b.out.Blank, "its one row", "each of its "+strconv.Itoa(b.out.Blank)+" rows"))
 		}
 		return nil, &ParseError{File: b.file, Sheet: b.sheet, Row: b.headerRow, Err: err}
 	}
 	if n := b.out.Blank; n > 0 {
-		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %d row(s) with a time but no stage, read as missing readings", b.file, n))
+		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %s with a time but no stage, read as missing readings", b.file, rating.Counted(n, "row", "rows")))
 	}
 	if w := b.ahead.warning(b.file, b.off); w != "" {
 		b.out.Warnings = append(b.out.Warnings, w)
@@ -479,10 +480,10 @@ func (c *clockAhead) warning(file string, off int64) string {
 	if off != 0 {
 		read = "at the one offset " + formatOffset(off)
 	}
-	return fmt.Sprintf("%s: %d place(s) where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
+	return fmt.Sprintf("%s: %s where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
 		"(the first from %s to %s, row %d): most likely a clock set forward for daylight saving, which a fixed offset does not follow, "+
 		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset",
-		file, c.count, read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
+		file, rating.Counted(c.count, "place", "places"), read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
 }
 
 // formatOffset writes an offset of off seconds east as ±HH:MM.

@@ -88,7 +88,7 @@ func TestParseStageRecordErrors(t *testing.T) {
 		{"no stage column", "time,level\n2024-05-01,1\n", []string{"s.csv:1", "stage"}, ErrMissingColumn},
 		{"semicolons", "time;stage\n2024-05-01;1\n", []string{"s.csv:1"}, ErrSemicolon},
 		{"no rows", head + "# nothing\n", []string{"no data rows"}, ErrEmpty},
-		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows: the stage of each of its 1 row(s) with a time is blank"}, ErrEmpty},
+		{"only blank stages", head + "2024-05-01,\n", []string{"no data rows: the stage of its one row with a time is blank"}, ErrEmpty},
 		{"bare quote", head + "2024-05-01,1\"2\n", []string{"s.csv:2:"}, csv.ErrBareQuote},
 		{"duplicate stage column", "time,stage,Stage (m)\n2024-05-01,1,2\n", []string{"s.csv:1:3", "the header names this column twice (also column 2)"}, ErrDuplicateColumn},
 		{"duplicate time column", "time,stage,time\n2024-05-01,1,2024-05-02\n", []string{"s.csv:1:3", "(also column 1)"}, ErrDuplicateColumn},
@@ -378,7 +378,7 @@ func TestStageRecordClockAhead(t *testing.T) {
 		want string // "" for no warning
 	}{
 		{"spring hour at +10:00", spring, 10 * time.Hour,
-			"1 place(s) where the times, written without a UTC offset and read at the one offset +10:00, jump ahead one hour more than the record's interval (the first from 2025-10-05T01:45:00+10:00 to 2025-10-05T03:00:00+10:00, row 5)"},
+			"1 place where the times, written without a UTC offset and read at the one offset +10:00, jump ahead one hour more than the record's interval (the first from 2025-10-05T01:45:00+10:00 to 2025-10-05T03:00:00+10:00, row 5)"},
 		{"spring hour read as UTC", spring, 0, "read as UTC, jump ahead"},
 		{"hourly record", rows("2025-10-05T00:00", "2025-10-05T01:00", "2025-10-05T03:00", "2025-10-05T04:00"), 0, "jump ahead"},
 		{"two-hour outage", rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T04:00", "2025-10-05T04:15"), 10 * time.Hour, ""},

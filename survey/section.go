@@ -562,8 +562,8 @@ func (r *sectionReader) unreadBankWarnings() {
 			continue
 		}
 		r.sv.Warnings = append(r.sv.Warnings, t.At(first, c, fmt.Errorf(
-			"this column is not read, yet holds %d bank mark(s) (%s), and no bank was found: name it %s (or %s) if it marks the points",
-			len(words), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
+			"this column is not read, yet holds %s (%s), and no bank was found: name it %s (or %s) if it marks the points",
+			rating.Counted(len(words), "bank mark", "bank marks"), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
 	}
 }
 

@@ -16,6 +16,7 @@ import (
 
 	"github.com/xuri/excelize/v2"
 
+	"wetline/rating"
 	"wetline/subdivide"
 )
 
@@ -641,8 +642,10 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 		return nil, &ParseError{File: name, Err: errors.New("empty file: no header row")}
 	}
 	if rows := commentedData(data, b.t.HeaderRow); len(rows) > 0 {
-		b.t.Warnings = append(b.t.Warnings, fmt.Sprintf("%s: %d line(s) below the header start with '#' and hold values, as data rows do (the first, line %d), "+
-			"but '#' begins a comment line, so they were not read: write a row's number without '#' if they are data", name, len(rows), rows[0]))
+		b.t.Warnings = append(b.t.Warnings, fmt.Sprintf("%s: %s below the header %s with '#' and %s values, as data rows do (the first, line %d), "+
+			"but '#' begins a comment line, so %s not read: write a row's number without '#' if %s data", name,
+			rating.Counted(len(rows), "line", "lines"), rating.Agree(len(rows), "starts", "start"), rating.Agree(len(rows), "holds", "hold"), rows[0],
+			rating.Agree(len(rows), "it was", "they were"), rating.Agree(len(rows), "it is", "they are")))
 	}
 	return b.t, nil
 }

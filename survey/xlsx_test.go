@@ -195,7 +195,7 @@ func TestNumberedRowsNotLost(t *testing.T) {
 		t.Fatal(err)
 	}
 	w := strings.Join(g.Warnings, "\n")
-	if len(g.Gaugings) != 1 || !strings.Contains(w, "g.csv: 2 line(s) below the header start with '#' and hold values, as data rows do (the first, line 2)") {
+	if len(g.Gaugings) != 1 || !strings.Contains(w, "g.csv: 2 lines below the header start with '#' and hold values, as data rows do (the first, line 2)") {
 		t.Errorf("CSV: %d gaugings, warnings %q", len(g.Gaugings), w)
 	}
 }

@@ -334,7 +334,7 @@ func TestBackwaterPlotsAndWorkbook(t *testing.T) {
 			t.Errorf("%s: %v %dx%d", name, err, cfg.Width, cfg.Height)
 		}
 	}
-	if !strings.Contains(errs, "wrote "+book) || !strings.Contains(errs, "10 profile(s)") {
+	if !strings.Contains(errs, "wrote "+book) || !strings.Contains(errs, "10 profiles") {
 		t.Errorf("summary %q", errs)
 	}
 	f := openBook(t, book)

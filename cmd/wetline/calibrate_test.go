@@ -65,7 +65,7 @@ func TestRateCalibrateChecks(t *testing.T) {
 		{"n far too low", head + "2026-01-10,1,3509.5\n", 1,
 			[]string{"calibrated n outside the plausible range", "0.0009"}, 0},
 		{"above the ends", head + "2026-01-10,4,16.8572\n", 0,
-			[]string{"1 gauging(s) lie above an end of the section (gauge heights up to 4.000 m; the lower end is at gauge height 3.000 m)", "multiplied by 1.2500"}, 2.52686},
+			[]string{"1 gauging lies above an end of the section (gauge heights up to 4.000 m; the lower end is at gauge height 3.000 m)", "multiplied by 1.2500"}, 2.52686},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			sub := t.TempDir()

@@ -88,7 +88,7 @@ func TestPlotRedraw(t *testing.T) {
 	if err := run(context.Background(), e, []string{"plot", table, "-o", filepath.Join(dir, "out3"), "--zero-flow", "100.55"}); err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(stderr.String(), "warning: rating figure: log–log panel: 2 rating point(s)") {
+	if !strings.Contains(stderr.String(), "warning: rating figure: log–log panel: 2 rating points") {
 		t.Errorf("no warning about rows left out:\n%s", stderr.String())
 	}
 }

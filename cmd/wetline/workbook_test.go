@@ -272,7 +272,7 @@ func TestRateWorkbookSummary(t *testing.T) {
 		"main channel between banks|stations 46 to 65.5|m",
 		"n, subsection 1 (left overbank, stations 0 to 46)|0.05",
 		"n, subsection 2 (channel, stations 46 to 65.5)|0.035",
-		"warning|at 14 stage(s) water stands in pockets behind higher ground",
+		"warning|at 14 stages water stands in pockets behind higher ground",
 		"caution|" + rating.Caution,
 	} {
 		if !strings.Contains(text, want) {

@@ -327,7 +327,7 @@ func (b *bayesProblem) thinControls(r Rating) []string {
 			hi = r.Controls[k+1].From
 		}
 		if c := b.d.countIn(lo, hi); c < MinPerSegment {
-			out = append(out, sayf("control %d holds %d gauging(s) at the posterior mode: its parameters rest on the prior (%s)", k+1, c, b.sources[k]))
+			out = append(out, sayf("control %d holds %s at the posterior mode: its parameters rest on the prior (%s)", k+1, rating.Counted(c, "gauging", "gaugings"), b.sources[k]))
 		}
 	}
 	return out

@@ -239,7 +239,7 @@ func TestBayesGivenBreaksHoldGaugings(t *testing.T) {
 	}
 	warned := false
 	for _, w := range f.Warnings {
-		warned = warned || strings.Contains(w, "control 2 holds 0 gauging(s)")
+		warned = warned || strings.Contains(w, "control 2 holds 0 gaugings")
 	}
 	if !warned || f.Controls[1].From != 2 {
 		t.Errorf("floodplain from %g, warnings %q", f.Controls[1].From, f.Warnings)

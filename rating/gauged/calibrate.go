@@ -147,8 +147,8 @@ func calibrate(gs []Gauging, c rating.HydraulicCurve, channelOnly bool, sel Sele
 	if above > 0 {
 		u := c.Options.Units
 		cal.Warnings = append(cal.Warnings, sayf(
-			"%d gauging(s) lie above an end of the section (gauge heights up to %.3f %s; the lower end is at gauge height %.3f %s): they were rated on vertical walls added there; check the datum (elevation = gauge height + datum)",
-			above, highest, u.Length(), c.Top(), u.Length()))
+			"%s %s above an end of the section (gauge heights up to %.3f %s; the lower end is at gauge height %.3f %s): %s rated on vertical walls added there; check the datum (elevation = gauge height + datum)",
+			rating.Counted(above, "gauging", "gaugings"), rating.Agree(above, "lies", "lie"), highest, u.Length(), c.Top(), u.Length(), rating.Agree(above, "it was", "they were")))
 	}
 	cal.Used = len(parts)
 	if len(parts) == 0 {

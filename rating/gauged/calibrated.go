@@ -40,8 +40,8 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	}
 	if lo < plausible.Min || hi > plausible.Max {
 		return rating.ScaledN{}, nil, nil, errorf(
-			"%w: the best factor on n, %.4g from %d gauging(s), makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
-			ErrImplausibleN, cal.Factor, cal.Used, lo, hi, plausible.Min, plausible.Max)
+			"%w: the best factor on n, %.4g from %s, makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
+			ErrImplausibleN, cal.Factor, rating.Counted(cal.Used, "gauging", "gaugings"), lo, hi, plausible.Min, plausible.Max)
 	}
 	which := "every n"
 	if channelOnly {

@@ -383,8 +383,8 @@ func (f *Fit) testMoreSegments(gs []Gauging, opt FitOptions, k int, ssr float64)
 	if f.MoreSegmentsP < PoorFitLevel {
 		f.PoorFit = true
 		f.Warnings = append(f.Warnings, fmt.Sprintf(
-			"%d segment(s) fit these gaugings poorly: %d segments cut the standard error from %.1f %% to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more segments",
-			k, k+1, f.StandardErrorPercent, g.StandardErrorPercent, fs, f.MoreSegmentsP, PoorFitLevel))
+			"%s %s these gaugings poorly: %d segments cut the standard error from %.1f %% to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more segments",
+			rating.Counted(k, "segment", "segments"), rating.Agree(k, "fits", "fit"), k+1, f.StandardErrorPercent, g.StandardErrorPercent, fs, f.MoreSegmentsP, PoorFitLevel))
 	}
 }
 

@@ -639,7 +639,7 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 // thinStart is sequential's error for control j (from 0) holding only n
 // gaugings between breakpoints br.
 func (p *lsqProblem) thinStart(j, n int, br []float64) error {
-	return errorf("%w: control %d holds %d gauging(s), too few to start from (breakpoints %v)", ErrNoStart, j+1, n, br)
+	return errorf("%w: control %d holds %s, too few to start from (breakpoints %v)", ErrNoStart, j+1, rating.Counted(n, "gauging", "gaugings"), br)
 }
 
 // slice returns the stages, ln Q and weights of the gaugings with

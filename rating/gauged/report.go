@@ -284,8 +284,8 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	r.MoreControls = moreControls(gs, co, f)
 	if m := r.MoreControls; m.Poor {
 		r.Warnings = append(r.Warnings, sayf(
-			"%d control(s) fit these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
-			m.Controls, m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
+			"%s %s these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
+			rating.Counted(m.Controls, "control", "controls"), rating.Agree(m.Controls, "fits", "fit"), m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
 	}
 	to := opt.Table
 	to.Hydraulic, to.HydraulicTable = ref.sec, ref.tab

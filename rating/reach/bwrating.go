@@ -60,12 +60,12 @@ func (r BackwaterRating) Table() (rating.Table, error) {
 		t.Rows = append(t.Rows, row)
 	}
 	if crit > 0 {
-		t.Warnings = append(t.Warnings, fmt.Sprintf("%d stage(s) are critical depth (flagged %s): no subcritical stage balances the energy equation there",
-			crit, FlagCriticalStage))
+		t.Warnings = append(t.Warnings, fmt.Sprintf("%s %s critical depth (flagged %s): no subcritical stage balances the energy equation there",
+			rating.Counted(crit, "stage", "stages"), rating.Agree(crit, "is", "are"), FlagCriticalStage))
 	}
 	if unsettled > 0 {
-		t.Warnings = append(t.Warnings, fmt.Sprintf("%d stage(s) still depend on the downstream boundary by more than %g %s (flagged %s): the reach is too short for the boundary to be forgotten",
-			unsettled, r.Tolerance, r.Units.Length(), FlagUnsettled))
+		t.Warnings = append(t.Warnings, fmt.Sprintf("%s still %s on the downstream boundary by more than %g %s (flagged %s): the reach is too short for the boundary to be forgotten",
+			rating.Counted(unsettled, "stage", "stages"), rating.Agree(unsettled, "depends", "depend"), r.Tolerance, r.Units.Length(), FlagUnsettled))
 	}
 	t.Warnings = append(t.Warnings, rating.ExtensionWarnings(maxL, maxR, maxStage, r.Units)...)
 	if pools > 1 && r.GeometryOptions.AllPools {

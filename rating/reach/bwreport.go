@@ -113,8 +113,8 @@ func outsideWarning(v Verification, u rating.Units) string {
 	if len(ids) == 0 {
 		return ""
 	}
-	return fmt.Sprintf("at %g %s the computed profile misses the marks by more than their quality band at %d section(s): %s; "+
-		"review n, the boundary and the marks before the reach is trusted", v.Discharge, u.Discharge(), len(ids), strings.Join(ids, ", "))
+	return fmt.Sprintf("at %g %s the computed profile misses the marks by more than their quality band at %s: %s; "+
+		"review n, the boundary and the marks before the reach is trusted", v.Discharge, u.Discharge(), rating.Counted(len(ids), "section", "sections"), strings.Join(ids, ", "))
 }
 
 // pondedWarnings words the water left out of the flow at the rating

@@ -83,7 +83,7 @@ func TestStepBackwaterVerify(t *testing.T) {
 		t.Errorf("unrated mark: band %g, outside %v", m.Band, m.Outside)
 	}
 	w := strings.Join(rep.Warnings, "\n")
-	if !strings.Contains(w, "misses the marks by more than their quality band at 1 section(s): P3") {
+	if !strings.Contains(w, "misses the marks by more than their quality band at 1 section: P3") {
 		t.Errorf("warnings %s", w)
 	}
 }

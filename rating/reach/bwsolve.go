@@ -744,9 +744,9 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 			"the computed stages there are critical depth, not a subcritical profile", crit, len(ps)))
 	}
 	if jumps > 0 {
-		out = append(out, fmt.Sprintf("at %d section stage(s) (marked jump) the hydraulics jump at the computed stage "+
+		out = append(out, fmt.Sprintf("at %s (marked jump) the hydraulics jump at the computed stage "+
 			"(a pocket joins the flow or level ground is wetted all at once): the energy equation balances there only to %.2g %s",
-			jumps, worst, u.Length()))
+			rating.Counted(jumps, "section stage", "section stages"), worst, u.Length()))
 	}
 	if starts > 0 {
 		out = append(out, fmt.Sprintf("at %d of %d discharges the boundary stage is below critical depth: those profiles start at critical depth", starts, len(ps)))

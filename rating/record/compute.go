@@ -360,8 +360,8 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 		k := l.below
 		warnings = append(warnings, fmt.Sprintf("%d of %s %s below the gauge height of zero flow of %s rating and %s rated 0 "+
 			"(the lowest %g at %s): a reading far below zero flow may be a logger's missing-value code, which pulls daily means down; "+
-			"leave the stage of a missing reading blank", k, counted(n, "reading", "readings"), agree(k, "lies", "lie"), agree(k, "its", "their"),
-			agree(k, "is", "are"), l.lowest, at(l.lowestAt)))
+			"leave the stage of a missing reading blank", k, rating.Counted(n, "reading", "readings"), rating.Agree(k, "lies", "lie"), rating.Agree(k, "its", "their"),
+			rating.Agree(k, "is", "are"), l.lowest, at(l.lowestAt)))
 	}
 	return warnings
 }
@@ -419,7 +419,7 @@ func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []Uni
 	}
 	return out, kept, fmt.Sprintf("%s %s below the lowest row of %s rating table by more than the table's whole stage range "+
 		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings",
-		counted(n, "reading", "readings"), agree(n, "lies", "lie"), agree(n, "its", "their"), st.Stage[first],
+		rating.Counted(n, "reading", "readings"), rating.Agree(n, "lies", "lie"), rating.Agree(n, "its", "their"), st.Stage[first],
 		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
 }
 
@@ -456,7 +456,7 @@ func (res *Result) summarize(c *counter) {
 	n := len(res.Units)
 	say := func(k int, one, many string) {
 		if k > 0 {
-			res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %s %s", k, counted(n, "reading", "readings"), agree(k, one, many)))
+			res.Warnings = append(res.Warnings, fmt.Sprintf("%d of %s %s", k, rating.Counted(n, "reading", "readings"), rating.Agree(k, one, many)))
 		}
 	}
 	say(c.flags[bit(NoRating)], "has no rating in force: no discharge", "have no rating in force: no discharge")
@@ -467,7 +467,7 @@ func (res *Result) summarize(c *counter) {
 	say(c.flags[bit(AboveGaugings)], "is above the highest gauging of its rating", "are above the highest gauging of their rating")
 	if c.gaps > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%s longer than %s %s not bridged (the longest %s, from %s)",
-			counted(c.gaps, "gap", "gaps"), FormatDuration(res.MaxGap), agree(c.gaps, "is", "are"), formatSeconds(c.longest),
+			rating.Counted(c.gaps, "gap", "gaps"), FormatDuration(res.MaxGap), rating.Agree(c.gaps, "is", "are"), formatSeconds(c.longest),
 			time.Unix(c.longestAt, 0).In(res.Zone).Format(time.RFC3339)))
 	}
 }

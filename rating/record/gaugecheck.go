@@ -148,11 +148,11 @@ func (res *Result) checkGaugings(r *gauged.Rater, gs []gauged.Gauging, tol float
 func (res *Result) leftOutWarning(left, of, before, after int) string {
 	n := len(res.Units)
 	if n == 0 {
-		return fmt.Sprintf("%d of %s %s not checked against the record: it keeps no reading", left, counted(of, "gauging", "gaugings"), agree(left, "is", "are"))
+		return fmt.Sprintf("%d of %s %s not checked against the record: it keeps no reading", left, rating.Counted(of, "gauging", "gaugings"), rating.Agree(left, "is", "are"))
 	}
 	return fmt.Sprintf("%d of %s %s outside the record's span, from %s to %s, and %s not checked against it (%d before its first reading, %d after its last)",
-		left, counted(of, "gauging", "gaugings"), agree(left, "lies", "lie"), res.at(res.Units[0].Time), res.at(res.Units[n-1].Time),
-		agree(left, "is", "are"), before, after)
+		left, rating.Counted(of, "gauging", "gaugings"), rating.Agree(left, "lies", "lie"), res.at(res.Units[0].Time), res.at(res.Units[n-1].Time),
+		rating.Agree(left, "is", "are"), before, after)
 }
 
 // at writes Unix seconds in the result's zone.

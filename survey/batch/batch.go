@@ -157,7 +157,7 @@ func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, erro
 	var jobs []Job
 	var warnings []string
 	if len(skipped) > 0 {
-		warnings = append(warnings, fmt.Sprintf("skipped %d file(s) that are not surveys: %s", len(skipped), strings.Join(skipped, ", ")))
+		warnings = append(warnings, fmt.Sprintf("skipped %s that %s: %s", rating.Counted(len(skipped), "file", "files"), rating.Agree(len(skipped), "is not a survey", "are not surveys"), strings.Join(skipped, ", ")))
 	}
 	warnings = append(warnings, twinWarnings(files, sniffs)...)
 	for _, path := range files {
@@ -274,7 +274,7 @@ func fileJobs(path, sheet string) ([]Job, []string) {
 		}
 	}
 	if len(hidden) > 0 {
-		warnings = append(warnings, fmt.Sprintf("%s: hidden sheet(s) %s not read: name one with --sheet to read it", path, strings.Join(hidden, ", ")))
+		warnings = append(warnings, fmt.Sprintf("%s: %s %s not read: name one with --sheet to read it", path, rating.Agree(len(hidden), "hidden sheet", "hidden sheets"), strings.Join(hidden, ", ")))
 	}
 	if len(jobs) == 0 {
 		return []Job{{Path: path, Name: base, Err: fmt.Errorf("%s: %w", path, ErrNoSurveySheet)}}, warnings

@@ -857,7 +857,7 @@ func TestListSkipsTablesThatAreNotSurveys(t *testing.T) {
 		t.Errorf("jobs %s, want a b-coords b", got)
 	}
 	w := strings.Join(warnings, "\n")
-	if !strings.Contains(w, "skipped 3 file(s) that are not surveys: rating.csv (a rating table), reach.csv (a reach table), visits.csv (a table of gaugings)") {
+	if !strings.Contains(w, "skipped 3 files that are not surveys: rating.csv (a rating table), reach.csv (a reach table), visits.csv (a table of gaugings)") {
 		t.Errorf("warnings:\n%s", w)
 	}
 	if !strings.Contains(w, "b-coords.csv and "+filepath.Join(dir, "b.csv")+" hold one section") || !strings.Contains(w, "rated twice") {
@@ -938,7 +938,7 @@ func TestListSkipsStageRecordsAndShiftTables(t *testing.T) {
 			if len(jobs) != 1 || jobs[0].Name != "xs" {
 				t.Errorf("jobs %q, want xs alone", jobWords(jobs))
 			}
-			want := fmt.Sprintf("skipped 1 file(s) that are not surveys: %s (%s)", tc.file, tc.kind)
+			want := fmt.Sprintf("skipped 1 file that is not a survey: %s (%s)", tc.file, tc.kind)
 			if !slices.Contains(warnings, want) {
 				t.Errorf("warnings %q, want %q", warnings, want)
 			}

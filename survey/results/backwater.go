@@ -252,7 +252,7 @@ func WriteBackwaterText(w io.Writer, rep reach.BackwaterReport) error {
 	bwTextMethod(line, rep)
 
 	line("")
-	line("Rating at %s (%s; spread: the larger difference of the profiles from the second and half-way starts)", r.Rating.Section, counted(len(r.Rating.Rows), "discharge", "discharges"))
+	line("Rating at %s (%s; spread: the larger difference of the profiles from the second and half-way starts)", r.Rating.Section, rating.Counted(len(r.Rating.Rows), "discharge", "discharges"))
 	var rows [][]string
 	for _, rd := range r.Rating.Rows {
 		rows = append(rows, []string{sig(rd.Discharge, 4), fixed(rd.Stage, 3), fixed(rd.Spread, 3), bwFlags(rd.Critical, rd.Unsettled, false)})

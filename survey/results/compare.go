@@ -378,7 +378,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 // WriteComparisonSummary says that a comparison was written to path.
 func WriteComparisonSummary(w io.Writer, what string, rows int, warnings []string, path string) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "wrote %s: %s, %s\n", path, what, counted(rows, "stage", "stages"))
+	fmt.Fprintf(bw, "wrote %s: %s, %s\n", path, what, rating.Counted(rows, "stage", "stages"))
 	return endSummary(bw, warnings)
 }
 

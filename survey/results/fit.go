@@ -602,8 +602,8 @@ type printer func(format string, a ...any)
 // writeFitControls writes the fitted controls.
 func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L, Q := r.Units.Length(), r.Units.Discharge()
-	p("\nFitted rating: %d control(s), each Q = A·(h − B)^C with its own offset B (h gauge height in %s, Q in %s), %d gaugings, %d parameters\n",
-		len(f.Controls), L, Q, f.N, f.Params)
+	p("\nFitted rating: %s, each Q = A·(h − B)^C with its own offset B (h gauge height in %s, Q in %s), %s, %s\n",
+		rating.Counted(len(f.Controls), "control", "controls"), L, Q, rating.Counted(f.N, "gauging", "gaugings"), rating.Counted(f.Params, "parameter", "parameters"))
 	p("  method: %s\n", methodWords(f))
 	what := "±: standard errors"
 	if f.Method == gauged.Bayesian {
@@ -673,7 +673,7 @@ func standardErrorWords(f *gauged.ControlFit) string {
 		return "weighted standard error of estimate " + standardErrorUndefined(f)
 	}
 	return fmt.Sprintf("weighted standard error of estimate %s %% (%s in ln Q, %s)",
-		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
+		fixed(f.StandardErrorPercent, 2), fixed(f.StandardErrorLog, 4), rating.Counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
 }
 
 // standardErrorUndefined says why a fit's standard error of estimate is

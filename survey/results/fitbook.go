@@ -238,8 +238,8 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("R̂ limit (the chains agree at or below it)", num("0.00", gauged.RHatLimit), "")
 		add("least effective sample size ("+p.ESSParam+")", num("0", p.ESSMin), "")
 		add("acceptance rate", num("0.000", p.Acceptance), "")
-		add("sampling", fmt.Sprintf("%s of %s after %s, seed %d, %d local mode(s)", counted(p.Chains, "chain", "chains"), counted(p.Draws, "draw", "draws"),
-			counted(p.Pilot, "pilot iteration", "pilot iterations"), p.Seed, p.Modes), "")
+		add("sampling", fmt.Sprintf("%s of %s after %s, seed %d, %s", rating.Counted(p.Chains, "chain", "chains"), rating.Counted(p.Draws, "draw", "draws"),
+			rating.Counted(p.Pilot, "pilot iteration", "pilot iterations"), p.Seed, rating.Counted(p.Modes, "local mode", "local modes")), "")
 		add("likelihood", p.Likelihood, "")
 	}
 	if j := f.Johnson; j.OK {

@@ -34,7 +34,7 @@ func CheckRatingWorkbook(stages, subs int) error {
 	rows := stages * max(subs, 1)
 	if rows+1 > workbook.MaxRows {
 		return fmt.Errorf("%w: %d stages × %s is %d rows, and a sheet holds %d: ask for fewer stages or write CSV",
-			ErrWorkbookRows, stages, counted(subs, "subsection", "subsections"), rows, workbook.MaxRows-1)
+			ErrWorkbookRows, stages, rating.Counted(subs, "subsection", "subsections"), rows, workbook.MaxRows-1)
 	}
 	return nil
 }
@@ -424,7 +424,7 @@ func writeSummary(b *workbook.Book, rep rating.RatingReport) error {
 		var err error
 		num := func(format string, v float64) any { return b.NumberOnce(format, v, &err) }
 		items = append(items,
-			SummaryItem{"n calibrated on", fmt.Sprintf("%d gauging(s) in %s: %s multiplied by the factor below", c.Gaugings, c.Source, which), ""},
+			SummaryItem{"n calibrated on", fmt.Sprintf("%s in %s: %s multiplied by the factor below", rating.Counted(c.Gaugings, "gauging", "gaugings"), c.Source, which), ""},
 			SummaryItem{"calibration factor on n", num("0.0000", c.Factor), ""},
 			SummaryItem{"standard error of the factor", num("0.00", c.FactorStandardErrorPercent), "%"},
 			SummaryItem{"standard error of estimate of the calibrated rating against the gaugings", num("0.00", c.StandardErrorPercent), "%"})

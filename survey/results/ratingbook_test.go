@@ -351,7 +351,7 @@ func TestRatingWorkbookCalibration(t *testing.T) {
 		FactorStandardErrorPercent: 0.9091, StandardErrorPercent: 2.5716}})
 	items := summaryItems(t, f)
 	for k, v := range map[string]string{
-		"n calibrated on":              "8 gauging(s) in g.csv: every n multiplied by the factor below|",
+		"n calibrated on":              "8 gaugings in g.csv: every n multiplied by the factor below|",
 		"calibration factor on n":      "0.86796|",
 		"standard error of the factor": "0.9091|%",
 		"standard error of estimate of the calibrated rating against the gaugings": "2.5716|%",

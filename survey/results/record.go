@@ -460,7 +460,7 @@ func WriteRecordText(w io.Writer, res *record.Result, tables RecordTables) error
 func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 	u := res.UnitSystem
 	n := len(res.Units)
-	fmt.Fprintf(bw, "Discharge record from %s: %s", res.Name, counted(n, "reading", "readings"))
+	fmt.Fprintf(bw, "Discharge record from %s: %s", res.Name, rating.Counted(n, "reading", "readings"))
 	if n > 0 {
 		fmt.Fprintf(bw, " from %s to %s", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout),
 			time.Unix(res.Units[n-1].Time, 0).In(res.Zone).Format(RecordTimeLayout))
@@ -539,15 +539,15 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 	if n := excludedCount(c); n > 0 {
 		excluded = fmt.Sprintf(" (%d excluded)", n)
 	}
-	fmt.Fprintf(bw, "  %d of %s%s %s outside %s from the record\n", out, counted(len(c.Gaugings), "gauging", "gaugings"), excluded,
-		agree(out, "lies", "lie"), agree(out, "its quality band", "their quality bands"))
+	fmt.Fprintf(bw, "  %d of %s%s %s outside %s from the record\n", out, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), excluded,
+		rating.Agree(out, "lies", "lie"), rating.Agree(out, "its quality band", "their quality bands"))
 	for _, g := range c.Gaugings {
 		if g.Excluded {
 			fmt.Fprintf(bw, "  excluded, never counted outside its band: %s, %s%s\n", g.Time.In(res.Zone).Format(RecordTimeLayout), excludeReason(g), sourceNote(g.Source))
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, counted(len(c.Gaugings), "gauge height", "gauge heights"),
-		agree(beyond, "differs", "differ"), tol)
+	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, rating.Counted(len(c.Gaugings), "gauge height", "gauge heights"),
+		rating.Agree(beyond, "differs", "differ"), tol)
 }
 
 // excludedStar marks a gauging's departure: x excluded (by its exclude
@@ -644,8 +644,9 @@ func appendPadded(b, cell []byte, width int, right bool) []byte {
 // warnings, the caution and the provisional note.
 func WriteRecordSummary(w io.Writer, res *record.Result, path string) error {
 	bw := bufio.NewWriter(w)
-	fmt.Fprintf(bw, "wrote %s: %s, %s, %d rating period(s), %d shift diagram(s)\n",
-		path, counted(len(res.Units), "reading", "readings"), counted(len(res.Daily), "day", "days"), len(res.Periods), len(res.Shifts))
+	fmt.Fprintf(bw, "wrote %s: %s, %s, %s, %s\n",
+		path, rating.Counted(len(res.Units), "reading", "readings"), rating.Counted(len(res.Daily), "day", "days"),
+		rating.Counted(len(res.Periods), "rating period", "rating periods"), rating.Counted(len(res.Shifts), "shift diagram", "shift diagrams"))
 	peak := record.DailyValue{Max: math.NaN()}
 	for _, d := range res.Daily {
 		if !math.IsNaN(d.Max) && (math.IsNaN(peak.Max) || d.Max > peak.Max) {

@@ -121,7 +121,7 @@ func historyItems(ps []periodInfo, ss []shiftInfo, z *time.Location, u rating.Un
 	for i, p := range ps {
 		v := fmt.Sprintf("from %s to %s: %s", fromText(p.from, z), toText(p.to, z), ratingWords(p.rating, u))
 		if p.readings >= 0 {
-			v += "; " + counted(p.readings, "reading", "readings") + " rated"
+			v += "; " + rating.Counted(p.readings, "reading", "readings") + " rated"
 		}
 		items = append(items, SummaryItem{fmt.Sprintf("rating period %d", i+1), v, ""})
 	}

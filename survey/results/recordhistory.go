@@ -106,7 +106,7 @@ func ratingWords(rt *gauged.RatingTable, u rating.Units) string {
 	}
 	L := u.Length()
 	lo, hi := rt.Points[0].Stage, rt.Points[len(rt.Points)-1].Stage
-	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, counted(len(rt.Points), "row", "rows"), FormatLength(lo), FormatLength(hi), L)}
+	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, rating.Counted(len(rt.Points), "row", "rows"), FormatLength(lo), FormatLength(hi), L)}
 	if rt.HasZeroFlow {
 		parts = append(parts, fmt.Sprintf("zero flow at %s %s (log-linear in h − e between rows)", FormatLength(rt.ZeroFlow), L))
 	} else {
@@ -159,7 +159,7 @@ func writeHistoryText(bw *bufio.Writer, periods []periodInfo, shifts []shiftInfo
 	for i, p := range periods {
 		fmt.Fprintf(bw, "  %d. from %s to %s: %s", i+1, fromText(p.from, z), toText(p.to, z), ratingWords(p.rating, u))
 		if p.readings >= 0 {
-			fmt.Fprintf(bw, "; %s rated", counted(p.readings, "reading", "readings"))
+			fmt.Fprintf(bw, "; %s rated", rating.Counted(p.readings, "reading", "readings"))
 		}
 		fmt.Fprintln(bw)
 	}

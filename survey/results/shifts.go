@@ -228,7 +228,7 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	z := zoneOf(c.UTCOffset)
 	u := c.Units
 	fmt.Fprintf(bw, "Gaugings against the ratings in force: %s; %s units (gauge heights and shifts in %s, discharge in %s); times in %s\n",
-		counted(len(c.Gaugings), "measurement", "measurements"), u, u.Length(), u.Discharge(), zoneName(z))
+		rating.Counted(len(c.Gaugings), "measurement", "measurements"), u, u.Length(), u.Discharge(), zoneName(z))
 	bw.WriteString(siteLine(c.Provenance))
 	if len(c.Provenance.Inputs) > 0 {
 		fmt.Fprintf(bw, "Read from: %s; computed by %s\n", joinInputs(c.Provenance.Inputs), programName(c.Provenance))
@@ -258,7 +258,7 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 	}
 	fmt.Fprintf(bw, "\nField visits and the shift diagram each proposes (through its measured shifts; write them with --proposed FILE, edit, and apply them with --shifts FILE):\n")
 	for k, v := range c.Visits {
-		fmt.Fprintf(bw, "  visit %d, %s, %d gauging(s): ", k+1, v.Time.In(z).Format(RecordTimeLayout), len(v.Gaugings))
+		fmt.Fprintf(bw, "  visit %d, %s, %s: ", k+1, v.Time.In(z).Format(RecordTimeLayout), rating.Counted(len(v.Gaugings), "gauging", "gaugings"))
 		if len(v.Proposal.Points) == 0 {
 			fmt.Fprintln(bw, "no diagram proposed"+allExcludedNote(c, v))
 			continue
@@ -402,7 +402,7 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 			proposed++
 		}
 	}
-	fmt.Fprintf(bw, "wrote %s: %s in %s", path, counted(len(c.Gaugings), "gauging", "gaugings"), counted(len(c.Visits), "visit", "visits"))
+	fmt.Fprintf(bw, "wrote %s: %s in %s", path, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), rating.Counted(len(c.Visits), "visit", "visits"))
 	if n := excludedCount(c); n > 0 {
 		fmt.Fprintf(bw, " (%d excluded)", n)
 	}
@@ -410,6 +410,6 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 	if len(c.History.Shifts) > 0 {
 		fmt.Fprintf(bw, ", %d with the shifts applied", outShifted)
 	}
-	fmt.Fprintf(bw, "; %s %s a shift diagram\n", counted(proposed, "visit", "visits"), agree(proposed, "proposes", "propose"))
+	fmt.Fprintf(bw, "; %s %s a shift diagram\n", rating.Counted(proposed, "visit", "visits"), rating.Agree(proposed, "proposes", "propose"))
 	return endSummary(bw, c.Warnings)
 }

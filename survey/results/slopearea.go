@@ -229,7 +229,7 @@ func saTextHeading(t *textReport, rep reach.Report) {
 		t.line("  90 %% band     none: no draw of %d had a solution", un.Draws)
 	default:
 		t.line("  90 %% band     %s to %s %s (5th to 95th percentile, median %s, %s)",
-			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), counted(un.Draws-un.Failed, "draw", "draws"))
+			rating.PlainFigures(un.P05, 4), rating.PlainFigures(un.P95, 4), Q, rating.PlainFigures(un.P50, 4), rating.Counted(un.Draws-un.Failed, "draw", "draws"))
 	}
 	switch r.Method {
 	case reach.MethodSlopeArea:
@@ -369,7 +369,7 @@ func saTextChecks(t *textReport, r reach.SlopeArea) {
 			pass++
 		}
 	}
-	t.line("Quality checks (%d of %d %s)", pass, len(r.Checks), agree(pass, "passes", "pass"))
+	t.line("Quality checks (%d of %d %s)", pass, len(r.Checks), rating.Agree(pass, "passes", "pass"))
 	var rows [][]string
 	for _, c := range r.Checks {
 		rows = append(rows, []string{c.Status(), c.Name, rating.PlainFigures(c.Value, 4) + " " + c.Relation + " " + rating.PlainFigures(c.Limit, 4), c.Source})

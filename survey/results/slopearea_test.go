@@ -207,7 +207,7 @@ func TestSummaryDischargesPlain(t *testing.T) {
 	if err := results.WriteRatingSummary(&b, rating.RatingReport{Table: tab}, "r.csv"); err != nil {
 		t.Fatal(err)
 	}
-	if want := "wrote r.csv: 2 stage(s) from 400.600 to 411.000 ft, discharge 0 to 4184 ft3/s (slope 0.002, us units)\n"; !strings.HasPrefix(b.String(), want) {
+	if want := "wrote r.csv: 2 stages from 400.600 to 411.000 ft, discharge 0 to 4184 ft3/s (slope 0.002, us units)\n"; !strings.HasPrefix(b.String(), want) {
 		t.Errorf("got  %q\nwant %q", b.String(), want)
 	}
 }

@@ -94,7 +94,7 @@ func writeSASummary(b *workbook.Book, rep reach.Report) error {
 		add("5th percentile", num(workbook.FormatSig3, un.P05), Q)
 		add("median", num(workbook.FormatSig3, un.P50), Q)
 		add("95th percentile", num(workbook.FormatSig3, un.P95), Q)
-		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %s (%d without a solution), seed %d: see the uncertainty sheet", counted(un.Draws, "draw", "draws"), un.Failed, un.Seed), "")
+		add("band", fmt.Sprintf("Monte Carlo over n and the marks, %s (%d without a solution), seed %d: see the uncertainty sheet", rating.Counted(un.Draws, "draw", "draws"), un.Failed, un.Seed), "")
 	} else {
 		add("band", "no Monte Carlo analysis was run", "")
 	}

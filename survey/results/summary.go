@@ -63,7 +63,7 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 	bw := bufio.NewWriter(w)
 	t := rep.Table
 	u := t.Units
-	fmt.Fprintf(bw, "wrote %s: %d stage(s)", path, len(t.Rows))
+	fmt.Fprintf(bw, "wrote %s: %s", path, rating.Counted(len(t.Rows), "stage", "stages"))
 	if lo, hi, ok := t.Extremes(); ok {
 		fmt.Fprintf(bw, " from %.3f to %.3f %s, discharge %s to %s %s",
 			lo.Stage, hi.Stage, u.Length(), rating.PlainFigures(lo.Discharge, 4), rating.PlainFigures(hi.Discharge, 4), u.Discharge())
@@ -80,9 +80,9 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	bw := bufio.NewWriter(w)
 	if f := r.Fit; f != nil && f.N != len(r.Gaugings) {
-		fmt.Fprintf(bw, "wrote %s: %s fitted of %d read", path, counted(f.N, "gauging", "gaugings"), len(r.Gaugings))
+		fmt.Fprintf(bw, "wrote %s: %s fitted of %d read", path, rating.Counted(f.N, "gauging", "gaugings"), len(r.Gaugings))
 	} else {
-		fmt.Fprintf(bw, "wrote %s: %s", path, counted(len(r.Gaugings), "gauging", "gaugings"))
+		fmt.Fprintf(bw, "wrote %s: %s", path, rating.Counted(len(r.Gaugings), "gauging", "gaugings"))
 	}
 	switch {
 	case r.Hydraulic != nil:
@@ -94,13 +94,13 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	}
 	fmt.Fprintln(bw)
 	if f := r.Fit; f != nil {
-		se := fmt.Sprintf("weighted standard error %s %% (%s)", fixed(f.StandardErrorPercent, 1), counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
+		se := fmt.Sprintf("weighted standard error %s %% (%s)", fixed(f.StandardErrorPercent, 1), rating.Counted(f.StandardErrorDF, "degree of freedom", "degrees of freedom"))
 		if f.StandardErrorDF <= 0 || math.IsNaN(f.StandardErrorLog) {
-			se = fmt.Sprintf("weighted standard error not defined (%s for %s of the rating)", counted(f.N, "gauging", "gaugings"),
-				counted(f.N-f.StandardErrorDF, "parameter", "parameters"))
+			se = fmt.Sprintf("weighted standard error not defined (%s for %s of the rating)", rating.Counted(f.N, "gauging", "gaugings"),
+				rating.Counted(f.N-f.StandardErrorDF, "parameter", "parameters"))
 		}
-		fmt.Fprintf(bw, "  %s fit, %d control(s), first offset %.3f %s (%s), %s\n",
-			f.Method, len(f.Controls), f.Controls[0].B, r.Units.Length(), f.OffsetSource, se)
+		fmt.Fprintf(bw, "  %s fit, %s, first offset %.3f %s (%s), %s\n",
+			f.Method, rating.Counted(len(f.Controls), "control", "controls"), f.Controls[0].B, r.Units.Length(), f.OffsetSource, se)
 	}
 	if r.Fit != nil {
 		fmt.Fprintf(bw, "  uncertainty convention: %s\n", gauged.UncertaintyConvention())
@@ -140,9 +140,9 @@ func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 			warn++
 		}
 	}
-	fmt.Fprintf(bw, ", %d of %s %s", warn, counted(len(r.Checks), "check", "checks"), agree(warn, "warns", "warn"))
+	fmt.Fprintf(bw, ", %d of %s %s", warn, rating.Counted(len(r.Checks), "check", "checks"), rating.Agree(warn, "warns", "warn"))
 	if n := len(rep.Warnings); n > 0 { // warnings beside the checks (a survey read twice, marks rising)
-		fmt.Fprintf(bw, "; %s below", counted(n, "warning", "warnings"))
+		fmt.Fprintf(bw, "; %s below", rating.Counted(n, "warning", "warnings"))
 	}
 	fmt.Fprintln(bw)
 	return endSummary(bw, rep.Warnings)
@@ -155,7 +155,7 @@ func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) 
 	bw := bufio.NewWriter(w)
 	r := rep.Result
 	u := r.Units
-	fmt.Fprintf(bw, "wrote %s: %d profile(s) from %s", path, len(r.Profiles), BackwaterBoundaryWords(rep))
+	fmt.Fprintf(bw, "wrote %s: %s from %s", path, rating.Counted(len(r.Profiles), "profile", "profiles"), BackwaterBoundaryWords(rep))
 	lo, hi := math.Inf(1), math.Inf(-1)
 	unsettled := 0
 	for _, rd := range r.Rating.Rows {
@@ -190,7 +190,7 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings
 			skipped++
 		}
 	}
-	fmt.Fprintf(bw, "rated %d of %s into %s", len(entries)-failed-skipped, counted(len(entries), "section", "sections"), where)
+	fmt.Fprintf(bw, "rated %d of %s into %s", len(entries)-failed-skipped, rating.Counted(len(entries), "section", "sections"), where)
 	if skipped > 0 {
 		fmt.Fprintf(bw, "; %d skipped", skipped)
 	}
