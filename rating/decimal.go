@@ -113,7 +113,8 @@ func DecimalMean(a, b float64) float64 {
 // 13620 and 0.052341 as 0.05234. It is the form of a
 // discharge in summary lines and figure footnotes, where 1.36e+03 would
 // be read by few. Zero is "0" (without a sign); NaN and ±Inf are "-"; a
-// value of PlainLimit or more is written with a power of ten, 3.3×10^33.
+// value of PlainLimit or more, or of less than PlainSmall but not zero, is
+// written with a power of ten: 3.3×10^33, 1.946×10^-300.
 func PlainFigures(v float64, n int) string {
 	switch {
 	case math.IsNaN(v) || math.IsInf(v, 0):
@@ -129,7 +130,7 @@ func PlainFigures(v float64, n int) string {
 	if err != nil {
 		return strconv.FormatFloat(v, 'f', -1, 64)
 	}
-	if math.Abs(r) >= PlainLimit { // no quantity of a river: a degenerate fit's
+	if a := math.Abs(r); a >= PlainLimit || a < PlainSmall { // no quantity of a river: a degenerate fit's
 		mant, exp, _ := strings.Cut(e, "e")
 		x, _ := strconv.Atoi(exp)
 		if strings.Contains(mant, ".") {
@@ -145,3 +146,10 @@ func PlainFigures(v float64, n int) string {
 // comes near it, so such a value is a degenerate estimate (a posterior
 // standard deviation without bound), and 34 digits would hide that.
 const PlainLimit = 1e15
+
+// PlainSmall is the size below which PlainFigures writes a power of ten
+// (1.946×10^-300) rather than the zeros before the figures: the
+// coefficient of a degenerate power law, where 300 zeros would hide the
+// figures and what they say. Quantities the project reports plainly,
+// down to 0.000000001, stay above it.
+const PlainSmall = 1e-10

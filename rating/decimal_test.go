@@ -80,6 +80,10 @@ func TestPlainFigures(t *testing.T) {
 		{3.3e33, 2, "3.3×10^33"},
 		{-2e16, 4, "-2×10^16"},
 		{9.99e14, 3, "999000000000000"},
+		{1.9463e-300, 5, "1.9463×10^-300"},
+		{-4e-11, 2, "-4×10^-11"},
+		{1e-10, 4, "0.0000000001"},
+		{3.9e-9, 2, "0.0000000039"},
 	} {
 		if got := PlainFigures(tc.v, tc.n); got != tc.want {
 			t.Errorf("PlainFigures(%g, %d) = %q, want %q", tc.v, tc.n, got, tc.want)
