@@ -86,6 +86,18 @@ func TestMarkColumnNames(t *testing.T) {
 	if _, err := ParseSection(strings.NewReader("station,elevation,mark,code\n0,1,bank,x\n1,0,,\n2,1,bank,\n"), "s.csv", SectionOptions{}); !errors.Is(err, ErrAliasColumns) {
 		t.Errorf("mark and code: %v, want ErrAliasColumns", err)
 	}
+	// A data collector's export: a point code beside a description. The
+	// code marks the banks; the description is not read.
+	cd := "station,elevation,code,description\n0,12,GND,left end\n2,11,LB,left bank top\n6,9,GND,thalweg\n10,11.1,RB,right bank top\n12,12.1,GND,\n"
+	if sv, err := ParseSection(strings.NewReader(cd), "s.csv", SectionOptions{}); err != nil || !sv.Section.HasBanks || sv.Section.LeftBank != 2 || sv.Section.RightBank != 10 {
+		t.Errorf("code and description: %v, banks %v %v %v: want the code's banks at 2 and 10", err, sv.Section.HasBanks, sv.Section.LeftBank, sv.Section.RightBank)
+	}
+	// Two bank marks on one side, in a coordinate survey whose mark column
+	// is a code: the error names that column and cell.
+	two := "easting,northing,elevation,code\n100,200,10,\n101,200,9,LB\n102,200,8,\n104,200,9.1,LTOB\n105,200,10.1,\n"
+	if _, err := ParseSection(strings.NewReader(two), "c.csv", SectionOptions{}); err == nil || !strings.Contains(err.Error(), `c.csv:5:4: code "LTOB"`) {
+		t.Errorf("two left banks under code: %v, want the error at c.csv:5:4 code \"LTOB\"", err)
+	}
 	sv, err := ParseSection(strings.NewReader("station,elevation,pt\n"+stations), "s.csv", SectionOptions{})
 	if err != nil || sv.Section.HasBanks || len(sv.Warnings) != 1 || !strings.Contains(sv.Warnings[0], `s.csv:3:3: pt "LTOB": this column is not read, yet holds 2 bank marks (LTOB, RTOB), and no bank was found`) {
 		t.Errorf("unread column: %v, %q", err, sv.Warnings)

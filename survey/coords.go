@@ -176,7 +176,7 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 		if nl > 0 {
 			i = l
 		}
-		return 0, 0, 0, 0, t.At(rows[i], t.Column(markNames()...), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
+		return 0, 0, 0, 0, t.At(rows[i], markColumnOr(t), fmt.Errorf("%w, found %d left and %d right", ErrPins, nl, nr))
 	default:
 		x0, y0, dx, dy = principalAxis(e, n)
 		pr.Line = LineFromPrinAx
@@ -377,7 +377,7 @@ func bankSidesTurn(t *Table, rows []Record, e, n []float64, marks []string, dx, 
 	sb, _ := readBankMark(marks[b])
 	if sa != eitherBank && sa == sb {
 		first, second := at[0], at[1]
-		return false, t.At(rows[second], t.Column(ColMark), fmt.Errorf("%w (%q at row %d, %q at row %d): correct one of them, or give the flow direction (--flow-azimuth)",
+		return false, t.At(rows[second], markColumnOr(t), fmt.Errorf("%w (%q at row %d, %q at row %d): correct one of them, or give the flow direction (--flow-azimuth)",
 			ErrBankSides, echo(marks[first]), rows[first].Row, echo(marks[second]), rows[second].Row))
 	}
 	wrong := sa == rightBank || sb == leftBank

@@ -125,6 +125,39 @@ func markNames() []string {
 	return []string{ColMark, "code", "point code", "pt code", "description", "desc"}
 }
 
+// markTiers are markNames in the order a mark column is chosen when a
+// survey has several: mark or a code, then a description. A data
+// collector's export often carries a point code and a description side by
+// side (common practice); the code holds the crew's bank codes, and the
+// description is then left unread (warned of if it holds bank words and
+// no bank is found).
+func markTiers() [][]string {
+	return [][]string{{ColMark, "code", "point code", "pt code"}, {"description", "desc"}}
+}
+
+// markColumn returns the index of t's mark column (-1 when it has none):
+// a name of the first of markTiers present. Two names of one tier (mark
+// and code) are refused as one column under two names (ErrAliasColumns).
+func markColumn(t *Table) (int, error) {
+	for _, tier := range markTiers() {
+		c, err := t.Optional(tier...)
+		if err != nil || c >= 0 {
+			return c, err
+		}
+	}
+	return -1, nil
+}
+
+// markColumnOr is markColumn for positioning an error in a table already
+// read through it: -1 when it has none or its names are ambiguous.
+func markColumnOr(t *Table) int {
+	c, err := markColumn(t)
+	if err != nil {
+		return -1
+	}
+	return c
+}
+
 // ErrNWithLength is the cause of a header naming an n column with a
 // length unit ("N (ft)"): Manning's n has no unit, so the column is not
 // n, and is most often a northing.
@@ -294,7 +327,7 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 			return r, err
 		}
 	}
-	if r.cm, err = t.Optional(markNames()...); err != nil {
+	if r.cm, err = markColumn(t); err != nil {
 		return r, err
 	}
 	r.cnote = t.Column(ColNote)
