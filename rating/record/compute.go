@@ -103,12 +103,15 @@ type DailyValue struct {
 	// discharges interpolated at its beginning and end midnights where the
 	// record is bridged across them (a reading at a midnight counts for
 	// both days it bounds), and of the two discharges at each rating break
-	// in the day within a bridged interval (a new period or an abrupt
-	// shift diagram: the stage interpolated in time, rated on what is in
-	// force before the break and after it). These are the corners of the
-	// discharge the mean integrates, so no discharge of it lies outside
-	// them; at a break the greatest or least can be a value no reading
-	// holds.
+	// in the day between two readings (a new period or an abrupt shift
+	// diagram: the stage interpolated in time, rated on what is in force
+	// before the break and after it); at a break on a reading, that
+	// reading's unit discharge stands for the break. Between readings these
+	// are the corners of the discharge the mean integrates, so there no
+	// discharge of it lies outside them; at a break the greatest or least
+	// can be a value no reading holds. At a break on a reading the mean
+	// integrates up to the discharge before the break, which the least and
+	// greatest do not count.
 	Min, Max         float64
 	MinTime, MaxTime time.Time
 	// Coverage is the fraction of the day covered by bridged intervals with
