@@ -89,7 +89,7 @@ func ResurveyWarning(a, b PlanLine, nameA, nameB string, u rating.Units) string 
 	if !(d > limit) {
 		return ""
 	}
-	return fmt.Sprintf("the section lines of %s and %s lie %.3g %s apart by their eastings and northings, more than the %g %s a resurvey of one section would (common practice): check they are surveys of one section, in one coordinate system",
+	return rating.Sayf("the section lines of %s and %s lie %.3g %s apart by their eastings and northings, more than the %g %s a resurvey of one section would (common practice): check they are surveys of one section, in one coordinate system",
 		nameA, nameB, d, u.Length(), limit, u.Length())
 }
 

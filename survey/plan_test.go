@@ -44,6 +44,11 @@ func TestLinesApart(t *testing.T) {
 	if w := ResurveyWarning(east, PlanLine{MidE: 1000, MidN: 2006, DirE: 1, DirN: 0}, "a.csv", "b.csv", rating.SI); !strings.Contains(w, "6 m apart") {
 		t.Errorf("6 m apart not warned: %q", w)
 	}
+	// Two coordinate systems: millions of metres apart, written plainly
+	// (5.4e+06 is read by few).
+	if w := ResurveyWarning(east, PlanLine{MidE: 1000, MidN: 5402000, DirE: 1, DirN: 0}, "a.csv", "b.csv", rating.SI); !strings.Contains(w, "lie 5400000 m apart") {
+		t.Errorf("5 400 km apart: %q", w)
+	}
 }
 
 // A section of a reach whose line points against the others' is warned

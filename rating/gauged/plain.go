@@ -1,80 +1,9 @@
 package gauged
 
-import (
-	"fmt"
-	"math"
+import "wetline/rating"
 
-	"wetline/rating"
-)
+// sayf is rating.Sayf: the fits' warnings write floats in plain decimal.
+func sayf(format string, a ...any) string { return rating.Sayf(format, a...) }
 
-// plainFloat is a float64 that a message writes in plain decimal, never
-// with an exponent: under %g (and %v) to the precision's significant
-// figures by rating.PlainFigures, the shortest that reads back without a
-// precision; NaN and ±Inf as fmt writes them. Other verbs are fmt's own.
-type plainFloat float64
-
-// Format implements fmt.Formatter.
-func (p plainFloat) Format(s fmt.State, verb rune) {
-	v := float64(p)
-	if (verb != 'g' && verb != 'v') || math.IsNaN(v) || math.IsInf(v, 0) {
-		fmt.Fprintf(s, fmt.FormatString(s, verb), v)
-		return
-	}
-	n, ok := s.Precision()
-	if !ok || n <= 0 {
-		n = 17 // the shortest decimal that reads back, as %g
-	}
-	out := rating.PlainFigures(v, n)
-	if s.Flag('+') && v >= 0 {
-		out = "+" + out
-	}
-	if w, ok := s.Width(); ok && len(out) < w {
-		pad := fmt.Sprintf("%*s", w-len(out), "")
-		if s.Flag('-') {
-			out += pad
-		} else {
-			out = pad + out
-		}
-	}
-	fmt.Fprint(s, out)
-}
-
-// plainArgs returns a with every float64 (and each element of a
-// []float64) made a plainFloat.
-func plainArgs(a []any) []any {
-	out := make([]any, len(a))
-	for i, x := range a {
-		switch v := x.(type) {
-		case float64:
-			out[i] = plainFloat(v)
-		case []float64:
-			p := make([]plainFloat, len(v))
-			for j, f := range v {
-				p[j] = plainFloat(f)
-			}
-			out[i] = p
-		default:
-			out[i] = x
-		}
-	}
-	return out
-}
-
-// sayf is fmt.Sprintf with the floats of a written in plain decimal
-// (plainFloat): the fits' warnings never print e-notation (1.12e-15,
-// 7e+02), which few readers of a rating read at a glance.
-func sayf(format string, a ...any) string {
-	if len(a) == 0 {
-		return fmt.Sprintf(format, a...) // and go vet checks the callers' verbs
-	}
-	return fmt.Sprintf(format, plainArgs(a)...)
-}
-
-// errorf is fmt.Errorf with the floats of a written in plain decimal, as
-// sayf; %w wraps as with fmt.Errorf.
-func errorf(format string, a ...any) error {
-	if len(a) == 0 {
-		return fmt.Errorf(format, a...) // and go vet checks the callers' verbs
-	}
-	return fmt.Errorf(format, plainArgs(a)...)
-}
+// errorf is rating.Errorf: the fits' errors write floats in plain decimal.
+func errorf(format string, a ...any) error { return rating.Errorf(format, a...) }

@@ -307,3 +307,9 @@ func writeJSONObject(w io.Writer, fields []jsonField) error {
 	bw.WriteString("}\n")
 	return bw.Flush()
 }
+
+// plainf writes to w as fmt.Fprintf does, with floats in plain decimal
+// (rating.Sayf): a report line never prints 2.971e+04.
+func plainf(w io.Writer, format string, a ...any) {
+	io.WriteString(w, rating.Sayf(format, a...))
+}

@@ -213,19 +213,19 @@ func WriteSolveText(w io.Writer, rep rating.SolveReport) error {
 	case rep.Area != nil:
 		a := rep.Area
 		fmt.Fprintf(bw, "section %s (%s units)\n", rep.Section, u)
-		fmt.Fprintf(bw, "flow area %g %s is held at stage %.4f %s (depth %.4f %s): top width %.4g %s, wetted perimeter %.4g %s\n",
+		plainf(bw, "flow area %g %s is held at stage %.4f %s (depth %.4f %s): top width %.4g %s, wetted perimeter %.4g %s\n",
 			a.Area, u.Area(), a.Root.Stage, u.Length(), a.Root.Depth, u.Length(),
 			a.TopWidth, u.Length(), a.WettedPerimeter, u.Length())
 	case rep.Stage != nil:
 		a := rep.Stage
 		fmt.Fprintf(bw, "section %s (%s units)\n", rep.Section, u)
 		if math.IsNaN(a.CriticalDischarge) {
-			fmt.Fprintf(bw, "at stage %g %s no discharge is critical (no free surface)\n", a.Stage, u.Length())
+			plainf(bw, "at stage %g %s no discharge is critical (no free surface)\n", a.Stage, u.Length())
 		} else {
-			fmt.Fprintf(bw, "at stage %g %s the critical discharge is %.4g %s\n", a.Stage, u.Length(), a.CriticalDischarge, u.Discharge())
+			plainf(bw, "at stage %g %s the critical discharge is %.4g %s\n", a.Stage, u.Length(), a.CriticalDischarge, u.Discharge())
 		}
 		if rep.Slope > 0 {
-			fmt.Fprintf(bw, "uniform flow at slope %g carries %.4g %s\n", rep.Slope, a.UniformDischarge, u.Discharge())
+			plainf(bw, "uniform flow at slope %g carries %.4g %s\n", rep.Slope, a.UniformDischarge, u.Discharge())
 		}
 	case rep.Discharge != nil:
 		writeSolution(bw, rep)
@@ -240,15 +240,15 @@ func writeSolution(w *bufio.Writer, rep rating.SolveReport) {
 	s := rep.Discharge
 	u := s.Units
 	L := u.Length()
-	fmt.Fprintf(w, "section %s (%s units), discharge %g %s, roughness %s\n", rep.Section, u, s.Discharge, u.Discharge(), compositeWords(rep.Composite))
+	plainf(w, "section %s (%s units), discharge %g %s, roughness %s\n", rep.Section, u, s.Discharge, u.Discharge(), compositeWords(rep.Composite))
 	if s.Slope > 0 {
 		for _, n := range s.Normal {
 			if n.Jump {
-				fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g: discharge drops past %g %s here as level ground is wetted all at once\n",
+				plainf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g: discharge drops past %g %s here as level ground is wetted all at once\n",
 					n.Stage, L, n.Depth, L, s.Slope, s.Discharge, u.Discharge())
 				continue
 			}
-			fmt.Fprintf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g, %s branch: area %.4g %s, mean velocity %.4g %s, ",
+			plainf(w, "normal stage %.4f %s (depth %.4f %s) at slope %g, %s branch: area %.4g %s, mean velocity %.4g %s, ",
 				n.Stage, L, n.Depth, L, s.Slope, n.Branch(), n.Row.Area, u.Area(), n.Row.MeanVelocity, u.Velocity())
 			if n.Row.Full {
 				fmt.Fprintln(w, "flowing full (wetted perimeter the whole circumference, top width zero, no Froude number)")
@@ -285,7 +285,7 @@ func writeSolution(w *bufio.Writer, rep rating.SolveReport) {
 	}
 	fmt.Fprintf(w, "least specific energy %.4f %s at stage %.4f %s%s\n", s.MinEnergy.Energy, L, s.MinEnergy.Stage, L, least)
 	if s.Closed && s.Slope > 0 {
-		fmt.Fprintf(w, "conduit at slope %g: %.4g %s flowing just full; at most %.4g %s part full, at stage %.4f %s (%.3f of the height)\n",
+		plainf(w, "conduit at slope %g: %.4g %s flowing just full; at most %.4g %s part full, at stage %.4f %s (%.3f of the height)\n",
 			s.Slope, s.FullDischarge, u.Discharge(), s.PeakDischarge, u.Discharge(), s.PeakStage, L, (s.PeakStage-s.Bottom)/(s.Top-s.Bottom))
 	}
 }
