@@ -80,13 +80,14 @@ func datumSteps(st *Stages, units []UnitValue, maxGap int64, tol float64, z *tim
 		}
 		out = append(out, fmt.Sprintf("the stage steps by %s %s in one interval, from %s %s at %s to %s %s at %s, and holds: "+
 			"the readings of the %s before and after stay within %s %s%s. A step this much larger than the stage's changes around it "+
-			"looks like a change of gauge datum or sensor (a logger reset, a sensor moved or replaced), not of flow: "+
-			"check the logger against the gauge readings of the visits and correct the stage record before using it",
+			"is most often a change of gauge datum or sensor (a logger reset, a sensor moved or replaced), not of flow, "+
+			"unless the flow is regulated (a gate or release held at a new level): "+
+			"check the logger against the gauge readings of the visits, and correct the stage record if it is not flow",
 			signedStage(step), L, stageText(st.Stage[i-1]), L, at(i-1), stageText(st.Stage[i]), L, at(i),
 			FormatDuration(StepWindow), stageText(max(before, after)), L, flow))
 	}
 	if found > maxStepWarnings {
-		out = append(out, fmt.Sprintf("%d more such steps of the stage are not listed", found-maxStepWarnings))
+		out = append(out, fmt.Sprintf("%s of the stage %s not listed", rating.Counted(found-maxStepWarnings, "more such step", "more such steps"), rating.Agree(found-maxStepWarnings, "is", "are")))
 	}
 	return out
 }
