@@ -76,3 +76,37 @@ func TestBandFloor(t *testing.T) {
 		t.Errorf("warnings %q: want one on the band floor", tab.Warnings)
 	}
 }
+
+// TestFitBandFloor: the segment fit of the library (FitPowerLaw) has the
+// same floor, e + t·SE(e): below it no band (a reviewer found an upper
+// bound of 6783 m³/s at 1 mm above e on these gaugings, closed form as in
+// TestBandFloor); above it the band holds the fitted discharge.
+func TestFitBandFloor(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	var gs []gauged.Gauging
+	for i := range 12 {
+		h := 0.45 + 0.18*float64(i)
+		g := gauged.Gauging{Stage: h, Discharge: 5 * math.Pow(h-0.3, 1.7), Quality: rating.Good}
+		g.Discharge *= math.Exp(g.LogSigma() * rng.NormFloat64())
+		gs = append(gs, g)
+	}
+	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	floor := f.BandFloor()
+	if !(f.ZeroFlowSE > 0) || !(floor > f.ZeroFlow) {
+		t.Fatalf("floor %g, e %g ± %g: want a floor above e", floor, f.ZeroFlow, f.ZeroFlowSE)
+	}
+	for _, h := range []float64{f.ZeroFlow + 0.001, f.ZeroFlow + 0.003, (f.ZeroFlow + floor) / 2} {
+		if lo, hi := f.Band(h); !math.IsNaN(lo) || !math.IsNaN(hi) {
+			t.Errorf("at %g, below the floor %g: band %g to %g", h, floor, lo, hi)
+		}
+	}
+	for _, h := range []float64{floor + 0.01, 1, 2} {
+		lo, hi := f.Band(h)
+		if q := f.Discharge(h); !(lo <= q && q <= hi) {
+			t.Errorf("at %g: discharge %g outside its band %g to %g", h, q, lo, hi)
+		}
+	}
+}

@@ -236,8 +236,8 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	}
 	t.Warnings = append(t.Warnings, t.extensionWarnings()...)
 	if fl := f.BandFloor(); t.rowsWithin(f.Rating.Controls[0].B, fl) > 0 && !t.BandsWithheld {
-		t.Warnings = append(t.Warnings, sayf("no bands below gauge height %s %s: it is the upper end of the 95 %% band of the gauge height of zero flow (%s ± %s %s), below which the linearised band does not hold",
-			gh(fl), f.Units.Length(), gh(f.Controls[0].B), rating.PlainFigures(f.Controls[0].BSE, 2), f.Units.Length()))
+		t.Warnings = append(t.Warnings, sayf("no bands below gauge height %s %s: it is the upper end of the 95 %% band of the gauge height of zero flow (%s ± %s %s, t times its standard error), below which the linearised band does not hold",
+			gh(fl), f.Units.Length(), gh(f.Controls[0].B), rating.PlainFigures(fl-f.Controls[0].B, 2), f.Units.Length()))
 	}
 	if len(uncovered) > 0 {
 		lo, hi := t.hyd.tab.Range()

@@ -922,15 +922,29 @@ func (f *Fit) Discharge(h float64) float64 {
 // with g the gradient of ln Q̂ in the parameters, Σ their covariance and t
 // Student's quantile with n − p degrees of freedom (the delta method;
 // Seber & Wild, 1989, Nonlinear Regression, Wiley, chapter 5, from
-// memory). NaN when the covariance is not available or h ≤ e.
+// memory). NaN when the covariance is not available, or h is below
+// BandFloor (at or below e), where the linearised band does not hold.
 func (f *Fit) Band(h float64) (lo, hi float64) {
-	if f.cov == nil || !(h > f.ZeroFlow) {
+	if f.cov == nil || !(h > f.ZeroFlow) || h < f.BandFloor() {
 		return math.NaN(), math.NaN()
 	}
 	k := len(f.Segments)
 	y := f.logQ(f.theta, k, h)
 	hw := f.tq * math.Sqrt(f.quad(f.gradient(k, h)))
 	return math.Exp(y - hw), math.Exp(y + hw)
+}
+
+// BandFloor is the lowest gauge height (length unit) at which Band gives
+// a band: e + t·SE(e), the upper end of the 95 % band of the gauge height
+// of zero flow (e itself when e is fixed or its standard error is not
+// available). Below it the delta method's upper bound rises as h falls
+// to e (see ControlFit.BandFloor, the same floor for the fits the
+// commands make).
+func (f *Fit) BandFloor() float64 {
+	if f.ZeroFlowFixed || math.IsNaN(f.ZeroFlowSE) || math.IsInf(f.ZeroFlowSE, 0) {
+		return f.ZeroFlow
+	}
+	return f.ZeroFlow + f.tq*f.ZeroFlowSE
 }
 
 // Stage returns the gauge height at which the fitted curve carries q > 0
