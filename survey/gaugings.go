@@ -117,6 +117,9 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if err != nil {
 		return gs, err
 	}
+	if err := cols.splitNumbers(t); err != nil {
+		return gs, err
+	}
 	if gs.Units, err = t.HeaderUnits(cols.stage, cols.discharge); err != nil {
 		return gs, err
 	}
@@ -234,6 +237,16 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	c.quality, c.note = t.Column(ColGaugingQuality), t.Column(ColNote)
 	c.uncertainty, c.exclude = t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
 	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude)
+}
+
+// splitNumbers returns the error (ErrSplitNumber) of a quality, note or
+// exclude column holding on most rows a bare digit string after a whole
+// number in the stage, discharge or uncertainty column before it: an
+// unquoted decimal comma (4,10) split the number and shifted the row
+// without adding a field (see Table.splitNumbers). A note may hold
+// measurement numbers, which pass when they increase down the rows.
+func (c gaugingCols) splitNumbers(t *Table) error {
+	return t.splitNumbers([]int{c.stage, c.discharge, c.uncertainty}, []int{c.quality, c.note, c.exclude}, []int{c.note})
 }
 
 // gaugingReader reads the rows of a gaugings table, gathering the errors
