@@ -129,7 +129,10 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // differs from the first time's (ErrMixedOffsets), a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before), a value after the header's last named column
-// (ErrBeyondHeader). A header naming a column twice is refused
+// (ErrBeyondHeader), a CSV row with more fields than a header line ending
+// in a named column (ErrSpilledRow), a column after the stage holding a
+// bare digit string after a whole stage on most rows (ErrSplitNumber: 1,05
+// split by an unquoted decimal comma). A header naming a column twice is refused
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
@@ -265,6 +268,7 @@ type stageBuilder struct {
 	ahead                clockAhead
 	errs                 cappedErrors
 	rows, maxRows        int // data rows read; the limit (Limits.Readings)
+	split                splitRun
 }
 
 func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
@@ -322,8 +326,50 @@ func (b *stageBuilder) fail(row, col int, text []byte, err error) {
 // a row beyond it is an error (ErrTooManyRows) and reading stops.
 func (b *stageBuilder) full() bool { return b.rows > b.maxRows }
 
+// headerFields is the number of fields of a CSV header line whose last
+// field is named, 0 in a sheet or when the line ends in blank fields: a
+// row with more fields is refused (ErrSpilledRow), as ParseCSV does.
+func (b *stageBuilder) headerFields() int {
+	if b.sheet != "" || b.width < len(b.header) {
+		return 0
+	}
+	return b.width
+}
+
+// takeSplit counts the cells of the stage and the column after it, when
+// that is a named column other than the time, for splitError.
+func (b *stageBuilder) takeSplit(fields [][]byte, row int) {
+	c := b.cs + 1
+	if c >= b.width || c == b.ct {
+		return
+	}
+	var whole, digits []byte
+	if b.cs < len(fields) {
+		whole = fields[b.cs]
+	}
+	if c < len(fields) {
+		digits = fields[c]
+	}
+	takeSplit(&b.split, row, whole, digits)
+}
+
+// splitError is the error (ErrSplitNumber) of a column after the stage
+// holding a bare digit string after a whole stage on most rows, as
+// Table.splitNumbers finds it in a survey: an unquoted decimal comma
+// (1,05) that split the stage without adding a field. A record holds no
+// running numbers, so increasing digit strings are refused too.
+func (b *stageBuilder) splitError() error {
+	if !b.split.split(false) {
+		return nil
+	}
+	c := b.cs + 1
+	return &ParseError{File: b.file, Sheet: b.sheet, Row: b.split.row, Column: c + 1, Name: b.header[c], Text: b.split.digits,
+		Err: b.split.cause(b.header[b.cs])}
+}
+
 // row reads one data row; a value after the header's last named column
-// is an error (ErrBeyondHeader) at its cell. The row after the limit's
+// is an error (ErrBeyondHeader) at its cell, and so is a CSV row with more
+// fields than a header line ending in a named column (ErrSpilledRow). The row after the limit's
 // last is an error at its row, wrapping ErrTooManyRows (see full).
 func (b *stageBuilder) row(fields [][]byte, row int) {
 	if b.rows++; b.full() {
@@ -331,10 +377,11 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 			Err: fmt.Errorf("the stage record %w of %d readings: raise it with %s=ROWS", ErrTooManyRows, b.maxRows, EnvMaxReadings)})
 		return
 	}
-	if c := beyondHeader(fields, b.width); c >= 0 {
-		b.errs.add(beyondHeaderError(b.file, b.sheet, row, c, string(fields[c])))
+	if pe := extraFieldsError(b.file, b.sheet, fields, row, b.width, b.headerFields()); pe != nil {
+		b.errs.add(pe)
 		return
 	}
+	b.takeSplit(fields, row)
 	cell := func(c int) []byte {
 		if c < 0 || c >= len(fields) {
 			return nil
@@ -415,6 +462,9 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 func (b *stageBuilder) finish() (*StageRecord, error) {
 	if b.header == nil {
 		return nil, &ParseError{File: b.file, Sheet: b.sheet, Err: errors.New("empty file: no header row")}
+	}
+	if err := b.splitError(); err != nil {
+		return nil, err
 	}
 	if err := b.errs.err(b.file); err != nil {
 		return nil, err

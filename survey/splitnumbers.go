@@ -3,7 +3,6 @@ package survey
 import (
 	"errors"
 	"fmt"
-	"regexp"
 	"slices"
 	"strconv"
 )
@@ -15,15 +14,23 @@ import (
 // shifted the row.
 var ErrSplitNumber = errors.New("a number split in two")
 
-var (
-	wholeNumber = regexp.MustCompile(`^[-+]?[0-9]+$`)
-	digitString = regexp.MustCompile(`^[0-9]+$`)
-)
-
 // splitPair reports two neighbouring cells that read as one number
 // split at a decimal comma: a whole number, then a bare digit string.
-func splitPair(whole, digits string) bool {
-	return wholeNumber.MatchString(whole) && digitString.MatchString(digits)
+func splitPair[S ~string | ~[]byte](whole, digits S) bool {
+	if len(whole) > 0 && (whole[0] == '-' || whole[0] == '+') {
+		whole = whole[1:]
+	}
+	return digitsOnly(whole) && digitsOnly(digits)
+}
+
+// digitsOnly reports text of the digits 0 to 9 alone, one at least.
+func digitsOnly[S ~string | ~[]byte](s S) bool {
+	for i := 0; i < len(s); i++ {
+		if s[i] < '0' || s[i] > '9' {
+			return false
+		}
+	}
+	return len(s) > 0
 }
 
 // splitRun counts, down the rows of one table or streamed file, the rows
@@ -39,16 +46,17 @@ type splitRun struct {
 	last       int
 }
 
-// take counts the cells of one row.
-func (s *splitRun) take(row int, whole, digits string) {
+// takeSplit counts in s the cells of one row, the number whole and the
+// text digits after it.
+func takeSplit[S ~string | ~[]byte](s *splitRun, row int, whole, digits S) {
 	s.rows++
 	if !splitPair(whole, digits) {
 		return
 	}
 	if s.n++; s.n == 1 {
-		s.row, s.whole, s.digits, s.increasing, s.last = row, whole, digits, true, -1
+		s.row, s.whole, s.digits, s.increasing, s.last = row, string(whole), string(digits), true, -1
 	}
-	v, err := strconv.Atoi(digits)
+	v, err := strconv.Atoi(string(digits))
 	s.increasing = s.increasing && err == nil && v > s.last
 	s.last = v
 }
@@ -80,7 +88,7 @@ func (t *Table) splitNumbers(numeric, text, running []int) error {
 		}
 		var s splitRun
 		for _, rec := range t.Records {
-			s.take(rec.Row, t.Cell(rec, c-1), t.Cell(rec, c))
+			takeSplit(&s, rec.Row, t.Cell(rec, c-1), t.Cell(rec, c))
 		}
 		if s.split(slices.Contains(running, c)) {
 			return &ParseError{File: t.File, Sheet: t.Sheet, Row: s.row, Column: c + 1, Name: t.Header[c], Text: s.digits,

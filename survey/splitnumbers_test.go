@@ -45,3 +45,47 @@ func TestGaugingsSplitNumber(t *testing.T) {
 		t.Errorf("gaugings-commas.csv: %v, want ErrSplitNumber at row 2, column 4", err)
 	}
 }
+
+// The streamed stage record refuses what ParseCSV and the survey reader
+// refuse: a CSV row with more fields than a header line ending in a named
+// column (1,05, with its trailing comma), and a column after the stage
+// holding a bare digit string after a whole stage on most rows (1,05 in a
+// row as wide as the header). Digit strings increasing down the rows are
+// refused too: a record has no point numbers, and a split stage rising
+// slowly gives them. The data are invented (testdata/stage-commas*.csv
+// are the reviewer's inputs).
+func TestStageRecordSplitNumber(t *testing.T) {
+	t.Parallel()
+	const head = "time,stage,quality\n"
+	for _, tc := range []struct {
+		name, csv string
+		err       error  // nil when read
+		at        string // position and text the error holds
+	}{
+		{"trailing comma spilled", head + "2024-07-10T00:00,1,05,\n2024-07-10T01:00,1,06,\n", ErrSpilledRow,
+			"s.csv:2:4: more fields than the header line (4 fields, the header 3): an unquoted decimal comma?"},
+		{"quality under the header", head + "2024-07-10T00:00,1,05\n2024-07-10T01:00,1,06\n2024-07-10T02:00,1,07\n", ErrSplitNumber,
+			`s.csv:2:3: quality "05": a number split in two: stage 1 then 05, as on 3 of 3 rows: an unquoted decimal comma? 1,05 read as two values`},
+		{"ignored column under the header", "time,stage,logger\n2024-07-10T00:00,1,45\n2024-07-10T01:00,1,38\n", ErrSplitNumber, `s.csv:2:3: logger "45"`},
+		{"beyond a short header", "time,stage\n2024-07-10T00:00,1,05\n", ErrBeyondHeader, "(an unquoted decimal comma? 1,05 read as two values?)"},
+		{"quality words", head + "2024-07-10T00:00,1,good\n2024-07-10T01:00,1,fair\n", nil, ""},
+		{"one whole stage", head + "2024-07-10T00:00,1,05\n2024-07-10T01:00,1.1,\n2024-07-10T02:00,1.2,07\n", nil, ""},
+		{"spreadsheet blank columns", "time,stage,quality,,\n2024-07-10T00:00,1.05,,,\n2024-07-10T01:00,1.06,,,\n", nil, ""},
+	} {
+		_, err := ParseStageRecord(strings.NewReader(tc.csv), "s.csv", StageRecordOptions{})
+		if tc.err == nil {
+			if err != nil {
+				t.Errorf("%s: %v", tc.name, err)
+			}
+			continue
+		}
+		if !errors.Is(err, tc.err) || !strings.Contains(err.Error(), tc.at) {
+			t.Errorf("%s: %v, want %v at %s", tc.name, err, tc.err, tc.at)
+		}
+	}
+	for file, want := range map[string]error{"testdata/stage-commas5.csv": ErrSpilledRow, "testdata/stage-commas2.csv": ErrSplitNumber} {
+		if _, err := ReadStageRecord(file, StageRecordOptions{}); !errors.Is(err, want) {
+			t.Errorf("%s: %v, want %v", file, err, want)
+		}
+	}
+}
