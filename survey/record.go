@@ -139,7 +139,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // it. A row with a time and a blank stage is a missing reading: it is
 // left out and counted in Blank. Times written without an offset that jump
 // ahead one hour more than the record's interval, as a clock set forward
-// for daylight saving does, are warned of (see clockAhead).
+// for daylight saving does early on a Sunday, are warned of (see
+// clockAhead).
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
 }
@@ -420,7 +421,7 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		return
 	}
 	if b.lastRow > 0 && !zoned {
-		b.ahead.take(b.lastSec, sec, row)
+		b.ahead.take(b.lastSec, sec, b.off, row)
 	}
 	b.lastSec, b.lastRow = sec, row
 	st := &b.out.Stages
@@ -488,12 +489,13 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 // clockAhead finds the places where the times of a regular record written
 // without a UTC offset jump ahead by exactly one hour more than the
 // interval before and after the jump (the interval d, one hour at most,
-// then d + 1 h, then d again): the hour a clock set forward for daylight
-// saving skips, the mirror of the repeated times of a clock set back (an
-// error, with its hint). A fixed offset does not follow the change, so
-// the readings after it are read an hour off and the skipped hour is
-// bridged as if read. The times of every row with a time count, a blank
-// stage's too.
+// then d + 1 h, then d again), where the hour skipped starts at a time
+// clocks are set forward (see setForward): the hour a clock set forward
+// for daylight saving skips, the mirror of the repeated times of a clock
+// set back (an error, with its hint). A fixed offset does not follow the
+// change, so the readings after it are read an hour off and the skipped
+// hour is bridged as if read. The times of every row with a time count, a
+// blank stage's too.
 type clockAhead struct {
 	prev     int64 // the interval ending at the last time; 0 before two
 	pending  int64 // d of a jump just seen, awaiting the interval after it
@@ -505,8 +507,9 @@ type clockAhead struct {
 	row      int   // and the row after it
 }
 
-// take counts the interval from time t0 to time t1 at row.
-func (c *clockAhead) take(t0, t1 int64, row int) {
+// take counts the interval from time t0 to time t1 at row, times written
+// without an offset having been read at off seconds.
+func (c *clockAhead) take(t0, t1, off int64, row int) {
 	gap := t1 - t0
 	if c.pending > 0 && gap == c.pending {
 		if c.count++; c.count == 1 {
@@ -514,10 +517,25 @@ func (c *clockAhead) take(t0, t1 int64, row int) {
 		}
 	}
 	c.pending = 0
-	if c.prev > 0 && c.prev <= 3600 && gap == c.prev+3600 {
+	if c.prev > 0 && c.prev <= 3600 && gap == c.prev+3600 && setForward(t0+off, c.prev) {
 		c.pending, c.pendFrom, c.pendTo, c.pendRow = c.prev, t0, t1, row
 	}
 	c.prev = gap
+}
+
+// setForward reports that a clock set forward for daylight saving may
+// have skipped the hour after the reading at local time t0 (Unix seconds
+// of the time as written), whose next reading was due d seconds later
+// (one hour at most): the first whole hour after t0, at most t0 + d, is
+// 01:00, 02:00 or 03:00 on a Sunday. Clocks are set forward on a Sunday
+// between 01:00 and 03:00 local time nearly everywhere daylight saving is
+// kept (common practice: 01:00 to 02:00 in the United Kingdom, 02:00 to
+// 03:00 in central Europe, North America and Australia, 03:00 to 04:00 in
+// eastern Europe; a few countries change at midnight or on another day,
+// and are not warned of). One lost reading at any other time is an outage.
+func setForward(t0, d int64) bool {
+	at := time.Unix(t0, 0).UTC().Truncate(time.Hour).Add(time.Hour)
+	return at.Unix() <= t0+d && at.Weekday() == time.Sunday && at.Hour() >= 1 && at.Hour() <= 3
 }
 
 // warning words the jumps found in file, read at an offset of off
