@@ -104,7 +104,11 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // outside MinYear to MaxYear (ErrYear), and a time written with a UTC
 // offset in a table whose first time has none, or the other way round
 // (ErrMixedOffsets). A missing column is the error of Table.Require, a
-// table without rows ErrEmpty.
+// table without rows ErrEmpty. A text column after a number column holding
+// a bare digit string after a whole number on most rows is refused
+// (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge heights spanning
+// more than a river rises are warned of by Gaugings.SpanWarnings once the
+// unit system is known.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	return gaugingsFromTable(t, 0)
 }
@@ -137,7 +141,6 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if len(gs.Gaugings) == 0 {
 		return gs, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
-	gs.Warnings = append(gs.Warnings, stageSpanWarning(gs)...)
 	gs.Warnings = append(gs.Warnings, twinGaugingWarnings(gs.Gaugings)...)
 	return gs, nil
 }
@@ -152,9 +155,15 @@ const (
 	MaxGaugedSpanFeet = 160.0
 )
 
-// stageSpanWarning warns when the gauge heights of gs span more than a
-// river rises at a gauge (MaxGaugedSpan), naming the lowest and highest.
-func stageSpanWarning(gs Gaugings) []string {
+// SpanWarnings returns the warning, if any, of gauge heights of gs that
+// span more than a river rises at a gauge, in the unit system u resolved
+// for them (the headers', else the one asked for: MaxGaugedSpan in si,
+// MaxGaugedSpanFeet in us units), naming the lowest and highest. The
+// readers leave it to their caller, which knows u.
+func (gs Gaugings) SpanWarnings(u rating.Units) []string {
+	if len(gs.Gaugings) == 0 {
+		return nil
+	}
 	lo, hi := gs.Gaugings[0], gs.Gaugings[0]
 	for _, g := range gs.Gaugings[1:] {
 		if g.Stage < lo.Stage {
@@ -165,7 +174,7 @@ func stageSpanWarning(gs Gaugings) []string {
 		}
 	}
 	limit, unit := MaxGaugedSpan, "m"
-	if gs.Units.Found && gs.Units.Units == rating.US {
+	if u == rating.US {
 		limit, unit = MaxGaugedSpanFeet, "ft"
 	}
 	if hi.Stage-lo.Stage <= limit {

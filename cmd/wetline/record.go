@@ -484,6 +484,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err := f.tableUnits(gs.Units, f.gaugings); err != nil {
 			return nil, err
 		}
+		gs.Warnings = append(gs.Warnings, gs.SpanWarnings(f.unitSystem)...)
 		site = site.Merge(gs.Site)
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)
