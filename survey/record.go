@@ -82,7 +82,7 @@ func OffsetsDiffer(sr *StageRecord, gs Gaugings) string {
 	}
 	first, give := "in UTC", "their offset from UTC, as --utc-offset ±HH:MM"
 	if off != 0 {
-		o := formatOffset(int64(off / time.Second))
+		o := record.FormatOffset(off)
 		first, give = o, "--utc-offset (such as --utc-offset "+o+")"
 	}
 	return fmt.Sprintf("%s writes its times with a UTC offset (the first %s) and %s without one, read as UTC: "+
@@ -546,21 +546,12 @@ func (c *clockAhead) warning(file string, off int64) string {
 	}
 	read := "as UTC"
 	if off != 0 {
-		read = "at the one offset " + formatOffset(off)
+		read = "at the one offset " + record.FormatOffset(time.Duration(off)*time.Second)
 	}
 	return fmt.Sprintf("%s: %s where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
 		"(the first from %s to %s, row %d): most likely a clock set forward for daylight saving, which a fixed offset does not follow, "+
 		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset",
 		file, rating.Counted(c.count, "place", "places"), read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
-}
-
-// formatOffset writes an offset of off seconds east as ±HH:MM.
-func formatOffset(off int64) string {
-	sign := "+"
-	if off < 0 {
-		sign, off = "-", -off
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
 }
 
 // cappedErrors keeps the first MaxReported parse errors and counts the

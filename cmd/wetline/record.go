@@ -304,12 +304,7 @@ func (o *utcOffset) String() string {
 	if d == 0 {
 		return "0"
 	}
-	s := int(d / time.Second)
-	sign := "+"
-	if s < 0 {
-		sign, s = "-", -s
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, s/3600, s/60%60)
+	return record.FormatOffset(d)
 }
 
 func (o *utcOffset) Set(s string) error {
