@@ -15,6 +15,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/rating/record"
 )
 
 // DrawShifts draws the figures of a shift check: each gauging's measured
@@ -165,12 +166,7 @@ func splitAt(pts plotter.XYs, breaks []float64) []plotter.XYs {
 
 // offsetName names a fixed offset as ISO 8601 writes it.
 func offsetName(off time.Duration) string {
-	s := int(off / time.Second)
-	sign := "+"
-	if s < 0 {
-		sign, s = "-", -s
-	}
-	return fmt.Sprintf("UTC%s%02d:%02d", sign, s/3600, s/60%60)
+	return "UTC" + record.FormatOffset(off)
 }
 
 // diagramLine lays a diagram out as points (shift, stage) over stages lo

@@ -104,7 +104,11 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // outside MinYear to MaxYear (ErrYear), and a time written with a UTC
 // offset in a table whose first time has none, or the other way round
 // (ErrMixedOffsets). A missing column is the error of Table.Require, a
-// table without rows ErrEmpty.
+// table without rows ErrEmpty. A text column after a number column holding
+// a bare digit string after a whole number on most rows is refused
+// (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge heights spanning
+// more than a river rises are warned of by Gaugings.SpanWarnings once the
+// unit system is known.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	return gaugingsFromTable(t, 0)
 }
@@ -115,6 +119,9 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	gs := Gaugings{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	cols, err := gaugingColsOf(t)
 	if err != nil {
+		return gs, err
+	}
+	if err := cols.splitNumbers(t); err != nil {
 		return gs, err
 	}
 	if gs.Units, err = t.HeaderUnits(cols.stage, cols.discharge); err != nil {
@@ -134,7 +141,6 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if len(gs.Gaugings) == 0 {
 		return gs, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
-	gs.Warnings = append(gs.Warnings, stageSpanWarning(gs)...)
 	gs.Warnings = append(gs.Warnings, twinGaugingWarnings(gs.Gaugings)...)
 	return gs, nil
 }
@@ -149,9 +155,15 @@ const (
 	MaxGaugedSpanFeet = 160.0
 )
 
-// stageSpanWarning warns when the gauge heights of gs span more than a
-// river rises at a gauge (MaxGaugedSpan), naming the lowest and highest.
-func stageSpanWarning(gs Gaugings) []string {
+// SpanWarnings returns the warning, if any, of gauge heights of gs that
+// span more than a river rises at a gauge, in the unit system u resolved
+// for them (the headers', else the one asked for: MaxGaugedSpan in si,
+// MaxGaugedSpanFeet in us units), naming the lowest and highest. The
+// readers leave it to their caller, which knows u.
+func (gs Gaugings) SpanWarnings(u rating.Units) []string {
+	if len(gs.Gaugings) == 0 {
+		return nil
+	}
 	lo, hi := gs.Gaugings[0], gs.Gaugings[0]
 	for _, g := range gs.Gaugings[1:] {
 		if g.Stage < lo.Stage {
@@ -162,7 +174,7 @@ func stageSpanWarning(gs Gaugings) []string {
 		}
 	}
 	limit, unit := MaxGaugedSpan, "m"
-	if gs.Units.Found && gs.Units.Units == rating.US {
+	if u == rating.US {
 		limit, unit = MaxGaugedSpanFeet, "ft"
 	}
 	if hi.Stage-lo.Stage <= limit {
@@ -234,6 +246,16 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	c.quality, c.note = t.Column(ColGaugingQuality), t.Column(ColNote)
 	c.uncertainty, c.exclude = t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
 	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude)
+}
+
+// splitNumbers returns the error (ErrSplitNumber) of a quality, note or
+// exclude column holding on most rows a bare digit string after a whole
+// number in the stage, discharge or uncertainty column before it: an
+// unquoted decimal comma (4,10) split the number and shifted the row
+// without adding a field (see Table.splitNumbers). A note may hold
+// measurement numbers, which pass when they increase down the rows.
+func (c gaugingCols) splitNumbers(t *Table) error {
+	return t.splitNumbers([]int{c.stage, c.discharge, c.uncertainty}, []int{c.quality, c.note, c.exclude}, []int{c.note})
 }
 
 // gaugingReader reads the rows of a gaugings table, gathering the errors

@@ -172,10 +172,10 @@ func FuzzParseGaugings(f *testing.F) {
 	})
 }
 
-// TestGaugingPlausibilityWarnings: gauge heights spanning more than any
-// river rises at a gauge (gauge heights in cm read as m), and one
-// measurement entered twice, are warned of; ordinary gaugings are not.
-// The limits are common practice (see MaxGaugedSpan, twinWithin).
+// TestGaugingPlausibilityWarnings: one measurement entered twice is
+// warned of; ordinary gaugings are not (gauge heights spanning more than
+// a river rises: TestGaugingSpanWarnings). The limit is common practice
+// (see twinWithin).
 func TestGaugingPlausibilityWarnings(t *testing.T) {
 	const head = "time,gauge_height%s,discharge,exclude\n"
 	for _, tc := range []struct {
@@ -183,11 +183,6 @@ func TestGaugingPlausibilityWarnings(t *testing.T) {
 		want             []string // substrings of the one warning expected
 	}{
 		{"ordinary", "", "2024-03-05T10:00,0.62,1.2,\n2024-06-01T10:00,3.35,60.1,\n", nil},
-		{"centimetres", "", "2024-03-05T10:00,62,1.2,\n2024-06-01T10:00,335,60.1,\n",
-			[]string{"span 273 m (from 62 at g.csv:2 to 335 at g.csv:3)", "centimetres"}},
-		{"feet wide but plausible", " (ft)", "2024-03-05T10:00,2,120,\n2024-06-01T10:00,102,9100,\n", nil},
-		{"feet too wide", " (ft)", "2024-03-05T10:00,2,120,\n2024-06-01T10:00,202,9100,\n",
-			[]string{"span 200 ft", "(160 ft)"}},
 		{"entered twice", "", "2024-03-05T10:00,1.251,4.50,\n2024-03-05T10:45,1.253,4.50,\n",
 			[]string{"g.csv:2 and g.csv:3, 45 minutes apart, have the same gauge height and discharge"}},
 		{"entered twice out of order", "", "2024-03-05T10:45,1.253,4.50,\n2024-01-01T10:00,0.9,2.0,\n2024-03-05T10:00,1.251,4.50,\n",

@@ -82,7 +82,7 @@ func OffsetsDiffer(sr *StageRecord, gs Gaugings) string {
 	}
 	first, give := "in UTC", "their offset from UTC, as --utc-offset ±HH:MM"
 	if off != 0 {
-		o := formatOffset(int64(off / time.Second))
+		o := record.FormatOffset(off)
 		first, give = o, "--utc-offset (such as --utc-offset "+o+")"
 	}
 	return fmt.Sprintf("%s writes its times with a UTC offset (the first %s) and %s without one, read as UTC: "+
@@ -129,14 +129,18 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // differs from the first time's (ErrMixedOffsets), a stage beyond
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before), a value after the header's last named column
-// (ErrBeyondHeader). A header naming a column twice is refused
+// (ErrBeyondHeader), a CSV row with more fields than a header line ending
+// in a named column (ErrSpilledRow), a column after the stage holding a
+// bare digit string after a whole stage on most rows (ErrSplitNumber: 1,05
+// split by an unquoted decimal comma). A header naming a column twice is refused
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
 // it. A row with a time and a blank stage is a missing reading: it is
 // left out and counted in Blank. Times written without an offset that jump
 // ahead one hour more than the record's interval, as a clock set forward
-// for daylight saving does, are warned of (see clockAhead).
+// for daylight saving does early on a Sunday, are warned of (see
+// clockAhead).
 func ParseStageRecord(r io.Reader, name string, opt StageRecordOptions) (*StageRecord, error) {
 	return parseStageCSV(r, name, opt, 0)
 }
@@ -265,6 +269,7 @@ type stageBuilder struct {
 	ahead                clockAhead
 	errs                 cappedErrors
 	rows, maxRows        int // data rows read; the limit (Limits.Readings)
+	split                splitRun
 }
 
 func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
@@ -322,8 +327,50 @@ func (b *stageBuilder) fail(row, col int, text []byte, err error) {
 // a row beyond it is an error (ErrTooManyRows) and reading stops.
 func (b *stageBuilder) full() bool { return b.rows > b.maxRows }
 
+// headerFields is the number of fields of a CSV header line whose last
+// field is named, 0 in a sheet or when the line ends in blank fields: a
+// row with more fields is refused (ErrSpilledRow), as ParseCSV does.
+func (b *stageBuilder) headerFields() int {
+	if b.sheet != "" || b.width < len(b.header) {
+		return 0
+	}
+	return b.width
+}
+
+// takeSplit counts the cells of the stage and the column after it, when
+// that is a named column other than the time, for splitError.
+func (b *stageBuilder) takeSplit(fields [][]byte, row int) {
+	c := b.cs + 1
+	if c >= b.width || c == b.ct {
+		return
+	}
+	var whole, digits []byte
+	if b.cs < len(fields) {
+		whole = fields[b.cs]
+	}
+	if c < len(fields) {
+		digits = fields[c]
+	}
+	takeSplit(&b.split, row, whole, digits)
+}
+
+// splitError is the error (ErrSplitNumber) of a column after the stage
+// holding a bare digit string after a whole stage on most rows, as
+// Table.splitNumbers finds it in a survey: an unquoted decimal comma
+// (1,05) that split the stage without adding a field. A record holds no
+// running numbers, so increasing digit strings are refused too.
+func (b *stageBuilder) splitError() error {
+	if !b.split.split(false) {
+		return nil
+	}
+	c := b.cs + 1
+	return &ParseError{File: b.file, Sheet: b.sheet, Row: b.split.row, Column: c + 1, Name: b.header[c], Text: b.split.digits,
+		Err: b.split.cause(b.header[b.cs])}
+}
+
 // row reads one data row; a value after the header's last named column
-// is an error (ErrBeyondHeader) at its cell. The row after the limit's
+// is an error (ErrBeyondHeader) at its cell, and so is a CSV row with more
+// fields than a header line ending in a named column (ErrSpilledRow). The row after the limit's
 // last is an error at its row, wrapping ErrTooManyRows (see full).
 func (b *stageBuilder) row(fields [][]byte, row int) {
 	if b.rows++; b.full() {
@@ -331,10 +378,11 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 			Err: fmt.Errorf("the stage record %w of %d readings: raise it with %s=ROWS", ErrTooManyRows, b.maxRows, EnvMaxReadings)})
 		return
 	}
-	if c := beyondHeader(fields, b.width); c >= 0 {
-		b.errs.add(beyondHeaderError(b.file, b.sheet, row, c, string(fields[c])))
+	if pe := extraFieldsError(b.file, b.sheet, fields, row, b.width, b.headerFields()); pe != nil {
+		b.errs.add(pe)
 		return
 	}
+	b.takeSplit(fields, row)
 	cell := func(c int) []byte {
 		if c < 0 || c >= len(fields) {
 			return nil
@@ -373,7 +421,7 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		return
 	}
 	if b.lastRow > 0 && !zoned {
-		b.ahead.take(b.lastSec, sec, row)
+		b.ahead.take(b.lastSec, sec, b.off, row)
 	}
 	b.lastSec, b.lastRow = sec, row
 	st := &b.out.Stages
@@ -416,6 +464,9 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 	if b.header == nil {
 		return nil, &ParseError{File: b.file, Sheet: b.sheet, Err: errors.New("empty file: no header row")}
 	}
+	if err := b.splitError(); err != nil {
+		return nil, err
+	}
 	if err := b.errs.err(b.file); err != nil {
 		return nil, err
 	}
@@ -438,12 +489,13 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 // clockAhead finds the places where the times of a regular record written
 // without a UTC offset jump ahead by exactly one hour more than the
 // interval before and after the jump (the interval d, one hour at most,
-// then d + 1 h, then d again): the hour a clock set forward for daylight
-// saving skips, the mirror of the repeated times of a clock set back (an
-// error, with its hint). A fixed offset does not follow the change, so
-// the readings after it are read an hour off and the skipped hour is
-// bridged as if read. The times of every row with a time count, a blank
-// stage's too.
+// then d + 1 h, then d again), where the hour skipped starts at a time
+// clocks are set forward (see setForward): the hour a clock set forward
+// for daylight saving skips, the mirror of the repeated times of a clock
+// set back (an error, with its hint). A fixed offset does not follow the
+// change, so the readings after it are read an hour off and the skipped
+// hour is bridged as if read. The times of every row with a time count, a
+// blank stage's too.
 type clockAhead struct {
 	prev     int64 // the interval ending at the last time; 0 before two
 	pending  int64 // d of a jump just seen, awaiting the interval after it
@@ -455,8 +507,9 @@ type clockAhead struct {
 	row      int   // and the row after it
 }
 
-// take counts the interval from time t0 to time t1 at row.
-func (c *clockAhead) take(t0, t1 int64, row int) {
+// take counts the interval from time t0 to time t1 at row, times written
+// without an offset having been read at off seconds.
+func (c *clockAhead) take(t0, t1, off int64, row int) {
 	gap := t1 - t0
 	if c.pending > 0 && gap == c.pending {
 		if c.count++; c.count == 1 {
@@ -464,10 +517,25 @@ func (c *clockAhead) take(t0, t1 int64, row int) {
 		}
 	}
 	c.pending = 0
-	if c.prev > 0 && c.prev <= 3600 && gap == c.prev+3600 {
+	if c.prev > 0 && c.prev <= 3600 && gap == c.prev+3600 && setForward(t0+off, c.prev) {
 		c.pending, c.pendFrom, c.pendTo, c.pendRow = c.prev, t0, t1, row
 	}
 	c.prev = gap
+}
+
+// setForward reports that a clock set forward for daylight saving may
+// have skipped the hour after the reading at local time t0 (Unix seconds
+// of the time as written), whose next reading was due d seconds later
+// (one hour at most): the first whole hour after t0, at most t0 + d, is
+// 01:00, 02:00 or 03:00 on a Sunday. Clocks are set forward on a Sunday
+// between 01:00 and 03:00 local time nearly everywhere daylight saving is
+// kept (common practice: 01:00 to 02:00 in the United Kingdom, 02:00 to
+// 03:00 in central Europe, North America and Australia, 03:00 to 04:00 in
+// eastern Europe; a few countries change at midnight or on another day,
+// and are not warned of). One lost reading at any other time is an outage.
+func setForward(t0, d int64) bool {
+	at := time.Unix(t0, 0).UTC().Truncate(time.Hour).Add(time.Hour)
+	return at.Unix() <= t0+d && at.Weekday() == time.Sunday && at.Hour() >= 1 && at.Hour() <= 3
 }
 
 // warning words the jumps found in file, read at an offset of off
@@ -478,21 +546,12 @@ func (c *clockAhead) warning(file string, off int64) string {
 	}
 	read := "as UTC"
 	if off != 0 {
-		read = "at the one offset " + formatOffset(off)
+		read = "at the one offset " + record.FormatOffset(time.Duration(off)*time.Second)
 	}
 	return fmt.Sprintf("%s: %s where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
 		"(the first from %s to %s, row %d): most likely a clock set forward for daylight saving, which a fixed offset does not follow, "+
 		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset",
 		file, rating.Counted(c.count, "place", "places"), read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
-}
-
-// formatOffset writes an offset of off seconds east as ±HH:MM.
-func formatOffset(off int64) string {
-	sign := "+"
-	if off < 0 {
-		sign, off = "-", -off
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
 }
 
 // cappedErrors keeps the first MaxReported parse errors and counts the

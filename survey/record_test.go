@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -359,8 +360,10 @@ func TestStageRecordSite(t *testing.T) {
 // hour a clock set forward for daylight saving skips (15-minute readings
 // 01:45 then 03:00) are warned of, as the repeated hour of a clock set
 // back is refused; an outage of another length, a jump with an irregular
-// interval after it, and times written with offsets are not. The dates are
-// invented.
+// interval after it, and times written with offsets are not, nor is one
+// lost hourly reading unless the hour lost starts at 01:00, 02:00 or 03:00
+// on a Sunday as written (when clocks are set forward, common practice;
+// 2025-10-05 and 2025-03-30 are Sundays). The dates are invented.
 func TestStageRecordClockAhead(t *testing.T) {
 	rows := func(times ...string) string {
 		var b strings.Builder
@@ -370,6 +373,11 @@ func TestStageRecordClockAhead(t *testing.T) {
 		}
 		return b.String()
 	}
+	hourly, err := os.ReadFile("testdata/hourly-one-missing.csv") // a Wednesday in July, 14:00 lost
+	if err != nil {
+		t.Fatal(err)
+	}
+	hourlyOneMissing := string(hourly)
 	spring := rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T03:00", "2025-10-05T03:15", "2025-10-05T03:30")
 	for _, tc := range []struct {
 		name string
@@ -380,7 +388,17 @@ func TestStageRecordClockAhead(t *testing.T) {
 		{"spring hour at +10:00", spring, 10 * time.Hour,
 			"1 place where the times, written without a UTC offset and read at the one offset +10:00, jump ahead one hour more than the record's interval (the first from 2025-10-05T01:45:00+10:00 to 2025-10-05T03:00:00+10:00, row 5)"},
 		{"spring hour read as UTC", spring, 0, "read as UTC, jump ahead"},
-		{"hourly record", rows("2025-10-05T00:00", "2025-10-05T01:00", "2025-10-05T03:00", "2025-10-05T04:00"), 0, "jump ahead"},
+		{"hourly record", rows("2025-10-07T00:00", "2025-10-07T01:00", "2025-10-07T03:00", "2025-10-07T04:00"), 0, ""},
+		{"hourly record on a Sunday", rows("2025-10-05T00:00", "2025-10-05T01:00", "2025-10-05T03:00", "2025-10-05T04:00"), 0,
+			"(the first from 2025-10-05T01:00:00Z to 2025-10-05T03:00:00Z, row 4)"},
+		{"hourly record on a Sunday at +10:00", rows("2025-10-05T00:00", "2025-10-05T01:00", "2025-10-05T03:00", "2025-10-05T04:00"), 10 * time.Hour, "jump ahead"},
+		{"hour from 01:00 on a Sunday", rows("2025-03-29T23:00", "2025-03-30T00:00", "2025-03-30T02:00", "2025-03-30T03:00"), 0, "jump ahead"},
+		{"hour from 03:00 on a Sunday", rows("2025-03-30T01:00", "2025-03-30T02:00", "2025-03-30T04:00", "2025-03-30T05:00"), 0, "jump ahead"},
+		{"hour from 04:00 on a Sunday", rows("2025-03-30T02:00", "2025-03-30T03:00", "2025-03-30T05:00", "2025-03-30T06:00"), 0, ""},
+		{"hour from midnight on a Sunday", rows("2025-03-29T22:00", "2025-03-29T23:00", "2025-03-30T01:00", "2025-03-30T02:00"), 0, ""},
+		{"Sunday afternoon", rows("2024-07-14T12:00", "2024-07-14T13:00", "2024-07-14T15:00", "2024-07-14T16:00"), 0, ""},
+		{"Sunday afternoon at +10:00", rows("2024-07-14T12:00", "2024-07-14T13:00", "2024-07-14T15:00", "2024-07-14T16:00"), 10 * time.Hour, ""},
+		{"one reading lost", hourlyOneMissing, 0, ""},
 		{"two-hour outage", rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T04:00", "2025-10-05T04:15"), 10 * time.Hour, ""},
 		{"irregular after", rows("2025-10-05T01:15", "2025-10-05T01:30", "2025-10-05T01:45", "2025-10-05T03:00", "2025-10-05T03:05"), 10 * time.Hour, ""},
 		{"times with offsets", rows("2025-10-05T01:15+10:00", "2025-10-05T01:30+10:00", "2025-10-05T01:45+10:00", "2025-10-05T03:00+11:00",

@@ -6,7 +6,6 @@ import (
 	"io"
 	"math"
 	"path/filepath"
-	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -225,7 +224,7 @@ func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	if err != nil {
 		return r.sv, err
 	}
-	if err := r.splitNumbers(); err != nil {
+	if err := t.splitNumbers([]int{r.cs, r.cx, r.cy, r.ce, r.cn}, []int{r.cm, r.cnote}, []int{r.cm, r.cnote}); err != nil {
 		return r.sv, err
 	}
 	for _, rec := range t.Records {
@@ -332,56 +331,6 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	}
 	r.cnote = t.Column(ColNote)
 	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
-}
-
-// ErrSplitNumber is the cause of a mark or note column that holds, on
-// most rows, a bare digit string after a whole number in the number
-// column before it (elevation 524, mark 8): a value written with an
-// unquoted decimal comma (524,8) split in two and shifted the row.
-var ErrSplitNumber = errors.New("a number split in two")
-
-var (
-	wholeNumber = regexp.MustCompile(`^[-+]?[0-9]+$`)
-	digitString = regexp.MustCompile(`^[0-9]+$`)
-)
-
-// splitPair reports two neighbouring cells that read as one number
-// split at a decimal comma: a whole number, then a bare digit string.
-func splitPair(whole, digits string) bool {
-	return wholeNumber.MatchString(whole) && digitString.MatchString(digits)
-}
-
-// splitNumbers returns the error (ErrSplitNumber) of a mark or note
-// column, after a number column read, holding a split number (see
-// splitPair) on more than half of the rows, and on two rows at least:
-// a decimal comma that shifted the rows. Digit strings increasing down
-// the rows are point numbers, not split numbers, and pass.
-func (r *sectionReader) splitNumbers() error {
-	t := r.t
-	numeric := []int{r.cs, r.cx, r.cy, r.ce, r.cn}
-	for _, c := range []int{r.cm, r.cnote} {
-		if c < 1 || !slices.Contains(numeric, c-1) {
-			continue
-		}
-		var at []Record
-		increasing, last := true, -1
-		for _, rec := range t.Records {
-			if !splitPair(t.Cell(rec, c-1), t.Cell(rec, c)) {
-				continue
-			}
-			at = append(at, rec)
-			v, err := strconv.Atoi(t.Cell(rec, c))
-			increasing = increasing && err == nil && v > last
-			last = v
-		}
-		if len(at) < 2 || 2*len(at) <= len(t.Records) || increasing {
-			continue
-		}
-		rec := at[0]
-		return t.At(rec, c, fmt.Errorf("%w: %s %s then %s, as on %d of %d rows: %s %s,%s read as two values; quote a value that holds a comma, and write numbers with a decimal point",
-			ErrSplitNumber, echo(t.Header[c-1]), t.Cell(rec, c-1), t.Cell(rec, c), len(at), len(t.Records), decimalCommaHint, t.Cell(rec, c-1), t.Cell(rec, c)))
-	}
-	return nil
 }
 
 // reversed replaces the errors of decreasing stations by one when all or

@@ -430,9 +430,9 @@ const decimalCommaHint = "an unquoted decimal comma?"
 // lastSplitPair returns the 0-based index of the last cell of rec that,
 // with the cell after it, reads as a number split at a decimal comma
 // (see splitPair), or -1.
-func lastSplitPair(rec []string) int {
+func lastSplitPair[S ~string | ~[]byte](rec []S) int {
 	for i := len(rec) - 2; i >= 0; i-- {
-		if splitPair(strings.TrimSpace(rec[i]), strings.TrimSpace(rec[i+1])) {
+		if splitPair(strings.TrimSpace(string(rec[i])), strings.TrimSpace(string(rec[i+1]))) {
 			return i
 		}
 	}
@@ -532,6 +532,29 @@ func csvFieldAt(data []byte, start, line, col int) (fieldLine, field int, ok boo
 	return 0, 0, false
 }
 
+// extraFieldsError is the error of a row rec (at row of file and sheet)
+// with cells beyond the width columns its header names: a value there
+// (ErrBeyondHeader at its cell; in CSV, naming the split number before it
+// when there is one), or, when fields > 0 (a CSV header line of that many
+// fields, its last named), blank fields beyond them (ErrSpilledRow). nil
+// when rec is no wider, or its extra fields are blank and fields is 0.
+func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, width, fields int) *ParseError {
+	if c := beyondHeader(rec, width); c >= 0 {
+		pe := beyondHeaderError(file, sheet, row, c, string(rec[c]))
+		if i := lastSplitPair(rec[:c+1]); sheet == "" && i >= 0 {
+			pe.Err = fmt.Errorf("%w (%s %s,%s read as two values?)", pe.Err, decimalCommaHint,
+				strings.TrimSpace(string(rec[i])), strings.TrimSpace(string(rec[i+1])))
+		}
+		return pe
+	}
+	if fields > 0 && len(rec) > fields {
+		return &ParseError{File: file, Row: row, Column: fields + 1,
+			Err: fmt.Errorf("%w (%d fields, the header %d): %s quote a value that holds a comma, and write numbers with a decimal point",
+				ErrSpilledRow, len(rec), fields, decimalCommaHint)}
+	}
+	return nil
+}
+
 // row adds a data row, keeping only the cells under the header; a value
 // after the header's last named column is an error (ErrBeyondHeader) at
 // its cell, blank cells there being dropped, unless the row is a CSV row
@@ -539,18 +562,8 @@ func csvFieldAt(data []byte, start, line, col int) (fieldLine, field int, ok boo
 // (ErrSpilledRow, at the first field beyond it).
 func (b *tableBuilder) row(rec []string, row int) error {
 	if len(rec) > len(b.t.Header) {
-		if c := beyondHeader(rec, len(b.t.Header)); c >= 0 {
-			pe := beyondHeaderError(b.t.File, b.t.Sheet, row, c, rec[c])
-			if i := lastSplitPair(rec[:c+1]); b.t.Sheet == "" && i >= 0 {
-				pe.Err = fmt.Errorf("%w (%s %s,%s read as two values?)", pe.Err, decimalCommaHint,
-					strings.TrimSpace(rec[i]), strings.TrimSpace(rec[i+1]))
-			}
+		if pe := extraFieldsError(b.t.File, b.t.Sheet, rec, row, len(b.t.Header), b.fields); pe != nil {
 			return pe
-		}
-		if b.fields > 0 && len(rec) > b.fields {
-			return &ParseError{File: b.t.File, Row: row, Column: b.fields + 1,
-				Err: fmt.Errorf("%w (%d fields, the header %d): %s quote a value that holds a comma, and write numbers with a decimal point",
-					ErrSpilledRow, len(rec), b.fields, decimalCommaHint)}
 		}
 		rec = rec[:len(b.t.Header)]
 	}

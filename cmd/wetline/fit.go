@@ -160,6 +160,7 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if err := d.take(gs.Units, path); err != nil {
 		return nil, err
 	}
+	gs.Warnings = append(gs.Warnings, gs.SpanWarnings(d.Units)...)
 	if err := f.periodHolds(path, gs.Gaugings, opt); err != nil {
 		return nil, err
 	}

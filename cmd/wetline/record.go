@@ -304,12 +304,7 @@ func (o *utcOffset) String() string {
 	if d == 0 {
 		return "0"
 	}
-	s := int(d / time.Second)
-	sign := "+"
-	if s < 0 {
-		sign, s = "-", -s
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, s/3600, s/60%60)
+	return record.FormatOffset(d)
 }
 
 func (o *utcOffset) Set(s string) error {
@@ -484,6 +479,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		if err := f.tableUnits(gs.Units, f.gaugings); err != nil {
 			return nil, err
 		}
+		gs.Warnings = append(gs.Warnings, gs.SpanWarnings(f.unitSystem)...)
 		site = site.Merge(gs.Site)
 		opt.Gaugings = gs.Gaugings
 		inputs = append(inputs, f.gaugings)

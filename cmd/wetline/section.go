@@ -233,9 +233,11 @@ func (c *calibrateFlags) apply(fs *flagSet, p *survey.Prepared, opt rating.Optio
 	if err != nil {
 		return nil, err
 	}
-	if err := sectionUnits(fs, p).take(gs.Units, c.gaugings); err != nil {
+	d := sectionUnits(fs, p)
+	if err := d.take(gs.Units, c.gaugings); err != nil {
 		return nil, err
 	}
+	gs.Warnings = append(gs.Warnings, gs.SpanWarnings(d.Units)...)
 	curve := rating.HydraulicCurve{Geometry: p.Geometry, Datum: c.datum, Options: opt}
 	g, cal, notes, err := gauged.CalibratedGeometry(gs.Gaugings, curve, c.channelOnly, c.gaugings, gauged.NRange{Min: survey.MinN, Max: survey.MaxN})
 	if err != nil {

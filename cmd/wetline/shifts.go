@@ -114,6 +114,7 @@ func (f *shiftsFlags) check(fs *flagSet, path string) (*gauged.ShiftCheck, error
 	if err := f.tableUnits(gs.Units, path); err != nil {
 		return nil, err
 	}
+	gs.Warnings = append(gs.Warnings, gs.SpanWarnings(f.unitSystem)...)
 	gap := f.visitGap
 	if gap == 0 {
 		// The library reads a zero gap as its default; the flag's 0 means

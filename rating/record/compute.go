@@ -297,12 +297,19 @@ func zone(off int64) *time.Location {
 	if off == 0 {
 		return time.UTC
 	}
-	sign, a := "+", off
-	if a < 0 {
-		sign, a = "-", -a
+	return time.FixedZone("UTC"+FormatOffset(time.Duration(off)*time.Second), int(off))
+}
+
+// FormatOffset writes a UTC offset (east positive) as ISO 8601 writes it,
+// ±HH:MM: +00:00 for none, -00:30 for half an hour west; seconds within
+// the minute are dropped (offsets of civil time are whole minutes).
+func FormatOffset(off time.Duration) string {
+	s := int64(off / time.Second)
+	sign := "+"
+	if s < 0 {
+		sign, s = "-", -s
 	}
-	name := fmt.Sprintf("UTC%s%02d:%02d", sign, a/3600, a/60%60)
-	return time.FixedZone(name, int(off))
+	return fmt.Sprintf("%s%02d:%02d", sign, s/3600, s/60%60)
 }
 
 // uses states the history's periods and diagrams on the result.

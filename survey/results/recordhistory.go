@@ -9,6 +9,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/rating/record"
 	"wetline/survey"
 )
 
@@ -58,12 +59,7 @@ func zoneOf(off time.Duration) *time.Location {
 	if off == 0 {
 		return time.UTC
 	}
-	s := int(off / time.Second)
-	sign, a := "+", s
-	if a < 0 {
-		sign, a = "-", -a
-	}
-	return time.FixedZone(fmt.Sprintf("UTC%s%02d:%02d", sign, a/3600, a/60%60), s)
+	return time.FixedZone("UTC"+record.FormatOffset(off), int(off/time.Second))
 }
 
 // zoneName names a zone for a report line.
