@@ -63,45 +63,82 @@ func TestShiftsJSONKeys(t *testing.T) {
 }
 
 // TestShiftsProposedRoundTrip: the proposed diagrams are written in the
-// shift-diagram format; given back with --shifts, every gauging whose
-// visit proposed a diagram is matched by the shifted rating (its residual
-// is zero to the four decimals written).
+// shift-diagram format, their lengths' headers naming the run's unit, so
+// that given back with --shifts, in either unit system and without
+// --units, every gauging whose visit proposed a diagram is matched by the
+// shifted rating (its residual is zero to the four decimals written).
 func TestShiftsProposedRoundTrip(t *testing.T) {
 	t.Parallel()
-	dir := t.TempDir()
-	proposed := filepath.Join(dir, "proposed.csv")
-	_, errs, code := runCLI(t, shiftsArgs("--proposed", proposed, "-o", filepath.Join(dir, "check.txt"))...)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
-	if !strings.Contains(errs, "wrote "+proposed) {
-		t.Errorf("stderr %q", errs)
-	}
-	data, err := os.ReadFile(proposed)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !strings.Contains(string(data), "\ntime,stage,shift,taper,abrupt\n") || !strings.HasPrefix(string(data), "# ") {
-		t.Errorf("proposed file:\n%s", data)
-	}
-	out, errs, code := runCLI(t, shiftsArgs("--shifts", proposed, "--format", "json")...)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
-	var doc struct {
-		Gaugings []struct {
-			Residual *float64 `json:"residual_shift"`
-			Source   string
-		}
-	}
-	if err := json.Unmarshal([]byte(out), &doc); err != nil {
-		t.Fatal(err)
-	}
-	const writtenTol = 5e-5 // shifts are written to four decimals
-	for _, g := range doc.Gaugings {
-		if g.Residual == nil || *g.Residual > writtenTol || *g.Residual < -writtenTol {
-			t.Errorf("%s: residual %v after applying its own proposal", g.Source, g.Residual)
-		}
+	for _, tc := range []struct {
+		name, length, discharge string
+	}{
+		{"si", "m", "m3/s"},
+		{"us", "ft", "ft3/s"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			dir := t.TempDir()
+			// The test inputs with their units in the headers: the run's
+			// unit system is the headers'.
+			inputs := map[string]string{}
+			for _, in := range []string{recGaugings, recRatingA, recRatingB} {
+				data, err := os.ReadFile(in)
+				if err != nil {
+					t.Fatal(err)
+				}
+				text := strings.Replace(string(data), "stage,discharge", "stage ("+tc.length+"),discharge ("+tc.discharge+")", 1)
+				path := filepath.Join(dir, filepath.Base(in))
+				if err := os.WriteFile(path, []byte(text), 0o644); err != nil {
+					t.Fatal(err)
+				}
+				inputs[in] = path
+			}
+			args := func(extra ...string) []string {
+				a := []string{"shifts", inputs[recGaugings], "--rating", inputs[recRatingA], "--rating", inputs[recRatingB] + "@2024-05-02T00:00", "--zero-flow", "0.2"}
+				return append(a, extra...)
+			}
+			proposed := filepath.Join(dir, "proposed.csv")
+			_, errs, code := runCLI(t, args("--proposed", proposed, "-o", filepath.Join(dir, "check.txt"))...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if !strings.Contains(errs, "wrote "+proposed) {
+				t.Errorf("stderr %q", errs)
+			}
+			data, err := os.ReadFile(proposed)
+			if err != nil {
+				t.Fatal(err)
+			}
+			L := tc.length
+			if header := "\ntime,stage (" + L + "),shift (" + L + "),taper (" + L + "),abrupt\n"; !strings.Contains(string(data), header) || !strings.HasPrefix(string(data), "# ") {
+				t.Errorf("proposed file, want the header %q:\n%s", header, data)
+			}
+			out, errs, code := runCLI(t, args("--shifts", proposed, "--format", "json")...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			var doc struct {
+				Units struct {
+					System string `json:"system"`
+				} `json:"units"`
+				Gaugings []struct {
+					Residual *float64 `json:"residual_shift"`
+					Source   string
+				}
+			}
+			if err := json.Unmarshal([]byte(out), &doc); err != nil {
+				t.Fatal(err)
+			}
+			if doc.Units.System != tc.name {
+				t.Errorf("units %q, want %q", doc.Units.System, tc.name)
+			}
+			const writtenTol = 5e-5 // shifts are written to four decimals
+			for _, g := range doc.Gaugings {
+				if g.Residual == nil || *g.Residual > writtenTol || *g.Residual < -writtenTol {
+					t.Errorf("%s: residual %v after applying its own proposal", g.Source, g.Residual)
+				}
+			}
+		})
 	}
 }
 

@@ -272,9 +272,15 @@ func jsonShifts(shifts []shiftInfo, z *time.Location) []jsonShift {
 }
 
 // writeShiftRows writes diagrams as rows of a shift table
-// (survey.ShiftColumns(), the format the shift-diagram reader takes).
-func writeShiftRows(bw *bufio.Writer, ds []gauged.ShiftDiagram, z *time.Location) {
-	writeRecord(bw, survey.ShiftColumns())
+// (survey.ShiftColumns(), the format the shift-diagram reader takes), the
+// stage, shift and taper headers naming their unit u ("stage (ft)") so
+// that the file reads back in its own unit system without --units.
+func writeShiftRows(bw *bufio.Writer, ds []gauged.ShiftDiagram, z *time.Location, u rating.Units) {
+	names := survey.ShiftColumns()
+	for i := 1; i <= 3; i++ {
+		names[i] += " (" + u.Length() + ")"
+	}
+	writeRecord(bw, names)
 	for _, d := range ds {
 		for _, r := range d.Rows() {
 			abrupt := ""

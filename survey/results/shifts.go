@@ -105,7 +105,8 @@ func WriteShiftsCSV(w io.Writer, c *gauged.ShiftCheck) error {
 }
 
 // WriteProposedShifts writes the diagram each visit proposes as a shift
-// table (survey.ShiftColumns(): time, stage, shift, taper, abrupt), after
+// table (survey.ShiftColumns(): time, stage, shift, taper, abrupt; the
+// lengths' headers with their unit, "stage (ft)"), after
 // comment lines saying where it came from, so that the user can edit it
 // (add a taper, mark a diagram abrupt, drop one) and read it back as shift
 // diagrams. Visits that propose no diagram are left out.
@@ -124,7 +125,7 @@ func WriteProposedShifts(w io.Writer, c *gauged.ShiftCheck) error {
 			ds = append(ds, v.Proposal)
 		}
 	}
-	writeShiftRows(bw, ds, z)
+	writeShiftRows(bw, ds, z, c.Units)
 	return bw.Flush()
 }
 
