@@ -103,3 +103,41 @@ func TestMarkColumnNames(t *testing.T) {
 		t.Errorf("unread column: %v, %q", err, sv.Warnings)
 	}
 }
+
+// TestMissingColumnSuggests: a missing column's error names its aliases,
+// and a header that is one of its names with a unit run on is pointed at,
+// with the bracketed form to write.
+func TestMissingColumnSuggests(t *testing.T) {
+	for _, tc := range []struct {
+		name, csv string
+		want      []string
+		column    int
+	}{
+		{"unit run on with an underscore", "time,gauge_height_ft,discharge\n2024-01-01,1,2\n",
+			[]string{`"stage" (or "gauge_height")`, `gauge_height_ft looks like gauge_height with its unit run on: write "gauge_height (ft)"`}, 2},
+		{"unit run on with a space", "time,Stage m,discharge\n2024-01-01,1,2\n",
+			[]string{`Stage m looks like stage with its unit run on: write "stage (m)"`}, 2},
+		{"discharge in cfs", "time,stage,discharge_cfs\n2024-01-01,1,2\n",
+			[]string{`write "discharge (cfs)"`}, 3},
+		{"another name", "time,level,discharge\n2024-01-01,1,2\n",
+			[]string{`needs a column named "stage" (or "gauge_height") (found: time, level, discharge)`}, 0},
+		{"a word that is no unit", "time,stage_gauge,discharge\n2024-01-01,1,2\n",
+			[]string{`(found: time, stage_gauge, discharge)`}, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseGaugings(strings.NewReader(tc.csv), "g.csv")
+			var pe *ParseError
+			if !errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
+				t.Fatalf("error %v, want ErrMissingColumn", err)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q lacks %q", err, w)
+				}
+			}
+			if pe.Column != tc.column {
+				t.Errorf("column %d, want %d", pe.Column, tc.column)
+			}
+		})
+	}
+}

@@ -869,8 +869,7 @@ var ErrAliasColumns = errors.New("keep one")
 func (t *Table) Require(names ...string) (int, error) {
 	i := t.Column(names...)
 	if i < 0 {
-		return -1, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
-			Err: fmt.Errorf("%w: the header needs a column named %q (found: %s)", ErrMissingColumn, names[0], headerList(t.Header))}
+		return -1, t.missingColumn(names)
 	}
 	for _, alias := range names {
 		j := t.Column(alias)
@@ -882,6 +881,56 @@ func (t *Table) Require(names ...string) (int, error) {
 			Err: fmt.Errorf("both %s and %s: %w", echo(t.Header[first]), echo(t.Header[second]), ErrAliasColumns)}
 	}
 	return i, nil
+}
+
+// missingColumn is the error of Require for a column known by names that
+// the header lacks (ErrMissingColumn): it names the column's aliases, and,
+// for a header that is one of the names
+// with a unit run on ("gauge_height_ft", "discharge cfs"), points at that
+// column with the form to write ("gauge_height (ft)").
+func (t *Table) missingColumn(names []string) *ParseError {
+	want := fmt.Sprintf("%q", names[0])
+	if len(names) > 1 {
+		quoted := make([]string, len(names)-1)
+		for k, n := range names[1:] {
+			quoted[k] = fmt.Sprintf("%q", n)
+		}
+		want += " (or " + strings.Join(quoted, ", ") + ")"
+	}
+	pe := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0]}
+	for c, h := range t.Header {
+		if name, unit, ok := unitRunOn(h, names); ok {
+			pe.Column = c + 1
+			pe.Err = fmt.Errorf("%w: the header needs a column named %s; %s looks like %s with its unit run on: write %q (a unit goes in brackets after the name)",
+				ErrMissingColumn, want, echo(h), name, name+" ("+unit+")")
+			return pe
+		}
+	}
+	pe.Err = fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))
+	return pe
+}
+
+// unitRunOn reports a header that is one of names followed, after a space,
+// underscore, hyphen or dot, by a unit of unitWords and nothing else
+// ("gauge_height_ft", "Discharge-cfs"), returning that name and the unit
+// as written.
+func unitRunOn(h string, names []string) (name, unit string, ok bool) {
+	h = strings.TrimSpace(h)
+	if strings.ContainsAny(h, "([") {
+		return "", "", false
+	}
+	hn := normName(h)
+	for _, n := range names {
+		nn := normName(n)
+		if len(hn) <= len(nn)+1 || !strings.HasPrefix(hn, nn) || !strings.ContainsRune("_.", rune(hn[len(nn)])) {
+			continue
+		}
+		rest := strings.TrimSpace(h[len(nn)+1:])
+		if _, known := unitWords[strings.ToLower(rest)]; known {
+			return n, rest, true
+		}
+	}
+	return "", "", false
 }
 
 // ownWarnings returns a copy of the table's warnings, to begin the
