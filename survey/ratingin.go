@@ -96,6 +96,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if err := t.unsavedIn(read...); err != nil {
 		return out, err
 	}
+	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, false, 0)...)
 	vf := validFromReader{t: t, col: cv}
 	periods := 0 // the rating periods of the times read, grouped as RatingTablesFromTable groups them
 	var lastFrom time.Time

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 
@@ -161,6 +162,7 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	if err := t.unsavedIn(cs, cq, cv, cx); err != nil {
 		return out, err
 	}
+	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, opt.HasZeroFlow, opt.ZeroFlow)...)
 	var errs errorList
 	var groups []ratingGroup
 	vf := validFromReader{t: t, col: cv, off: off}
@@ -348,4 +350,61 @@ func KindOf(t *Table) TableKind {
 		return KindSection
 	}
 	return KindUnknown
+}
+
+// zeroFlowNames are the names (as normName writes them) of a column that
+// gives a rating's gauge height of zero flow, its offset, row by row: a
+// rating written as descriptor rows with an offset column. wetline reads
+// no such column (see zeroFlowWarning); "offset" followed by a number
+// (offset1, offset_2) is one too.
+var zeroFlowNames = []string{"offset", "e", "gzf", "pzf", "ctf", "zero_flow", "zero_flow_stage",
+	"gauge_height_of_zero_flow", "gage_height_of_zero_flow", "gh_of_zero_flow", "stage_of_zero_flow",
+	"point_of_zero_flow", "cease_to_flow"}
+
+// isZeroFlowName reports a header naming a gauge height of zero flow (see
+// zeroFlowNames).
+func isZeroFlowName(h string) bool {
+	n := normName(h)
+	if slices.Contains(zeroFlowNames, n) {
+		return true
+	}
+	rest, ok := strings.CutPrefix(n, "offset")
+	rest = strings.TrimPrefix(rest, "_")
+	return ok && rest != "" && strings.Trim(rest, "0123456789") == ""
+}
+
+// zeroFlowWarnings warns of each column of a rating table that names a
+// gauge height of zero flow (see zeroFlowNames): it is not read, its
+// values (the distinct ones, in order) are said, and how zero flow is
+// given instead. zeroFlow, when given (has), is the --zero-flow value of
+// the table: a column holding that one value alone is not warned of.
+func zeroFlowWarnings(t *Table, has bool, zeroFlow float64) []string {
+	var out []string
+	for c, h := range t.Header {
+		if !isZeroFlowName(h) {
+			continue
+		}
+		var values []string
+		seen := map[string]bool{}
+		for _, rec := range t.Records {
+			if v := t.Cell(rec, c); v != "" && !seen[v] {
+				seen[v] = true
+				values = append(values, v)
+			}
+		}
+		if len(values) == 0 {
+			continue
+		}
+		if len(values) == 1 && has {
+			if v, err := ParseNumber(values[0]); err == nil && v == zeroFlow {
+				continue
+			}
+		}
+		why := fmt.Sprintf("yet names a gauge height of zero flow (it holds %s): give the table's with --zero-flow (one value a rating file)", strings.Join(values, ", "))
+		if len(values) > 1 {
+			why += "; a rating whose periods have their own zero flow takes a file each (--rating FILE@TIME), and one with an offset for each segment is read rightly only from rows close enough that the offset does not matter between them (its expanded table)"
+		}
+		out = append(out, t.unreadWarning(Record{Row: t.HeaderRow}, c, why))
+	}
+	return out
 }

@@ -298,3 +298,56 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 		})
 	}
 }
+
+// TestZeroFlowColumnWarned: a rating table's column naming a gauge height
+// of zero flow (a descriptor table with an offset on each row) is not
+// read; both rating readers warn of it at its header, with its values and
+// how zero flow is given, the rating periods' reader not when the column
+// holds the one --zero-flow given (the other reader is given none).
+func TestZeroFlowColumnWarned(t *testing.T) {
+	const unread = "this column is not read"
+	for _, tc := range []struct {
+		name, csv string
+		opt       RatingTableOptions
+		want, one string // the warnings of each reader hold them; "" for none
+	}{
+		// The offsets of the two segments of a published two-offset
+		// rating (testdata/reference/rating-12323720-two-offsets.csv).
+		{"two offsets", "stage (ft),discharge (ft3/s),offset (ft)\n3.66,0.78,3.58\n4.87,61.27,3.58\n6.59,243.71,3.30\n", RatingTableOptions{},
+			"r.csv:1:3: offset (ft): this column is not read, yet names a gauge height of zero flow (it holds 3.58, 3.30): give the table's with --zero-flow", "an offset for each segment"},
+		{"two offsets with one --zero-flow", "stage,discharge,offset\n3.66,0.78,3.58\n4.87,61.27,3.58\n6.59,243.71,3.30\n",
+			RatingTableOptions{HasZeroFlow: true, ZeroFlow: 3.58}, "an offset for each segment", unread},
+		{"e", "stage,discharge,e\n1,2,0.5\n2,5,\n", RatingTableOptions{}, "r.csv:1:3: e: " + unread, unread},
+		{"zero flow", "stage,discharge,Zero Flow\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "(it holds 0.5)", unread},
+		{"gzf", "gauge_height,discharge,GZF\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "GZF: " + unread, unread},
+		{"offset1", "stage,discharge,offset1\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "offset1: " + unread, unread},
+		{"the one --zero-flow given", "stage,discharge,offset\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.5}, "", unread},
+		{"blank", "stage,discharge,offset\n1,2,\n2,5,\n", RatingTableOptions{}, "", ""},
+		{"another column", "stage,discharge,offsets_note\n1,2,x\n2,5,y\n", RatingTableOptions{}, "", ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rt, err := ParseRatingTables(strings.NewReader(tc.csv), "r.csv", tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			tab, err := ParseCSV(strings.NewReader(tc.csv), "r.csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			one, err := RatingFromTable(tab, UnitChoice{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, c := range []struct {
+				reader   string
+				warnings []string
+				want     string
+			}{{"RatingTablesFromTable", rt.Warnings, tc.want}, {"RatingFromTable", one.Warnings, tc.one}} {
+				got := strings.Join(c.warnings, "\n")
+				if c.want == "" && strings.Contains(got, unread) || c.want != "" && !strings.Contains(got, c.want) {
+					t.Errorf("%s: warnings %q, want %q", c.reader, got, c.want)
+				}
+			}
+		})
+	}
+}

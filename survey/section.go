@@ -543,9 +543,9 @@ func (r *sectionReader) unreadBankWarnings() {
 		if len(words) == 0 {
 			continue
 		}
-		r.sv.Warnings = append(r.sv.Warnings, t.At(first, c, fmt.Errorf(
-			"this column is not read, yet holds %s (%s), and no bank was found: name it %s (or %s) if it marks the points",
-			rating.Counted(len(words), "bank mark", "bank marks"), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))).Error())
+		r.sv.Warnings = append(r.sv.Warnings, t.unreadWarning(first, c, fmt.Sprintf(
+			"yet holds %s (%s), and no bank was found: name it %s (or %s) if it marks the points",
+			rating.Counted(len(words), "bank mark", "bank marks"), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))))
 	}
 }
 

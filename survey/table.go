@@ -933,6 +933,14 @@ func unitRunOn(h string, names []string) (name, unit string, ok bool) {
 	return "", "", false
 }
 
+// unreadWarning is the warning of column c, which its reader does not
+// read, at the cell of rec: "this column is not read, " and why. Every
+// reader that warns of an unread column words it so (a section's bank
+// marks, a rating's zero-flow column).
+func (t *Table) unreadWarning(rec Record, c int, why string) string {
+	return t.At(rec, c, errors.New("this column is not read, "+why)).Error()
+}
+
 // ownWarnings returns a copy of the table's warnings, to begin the
 // warnings of what is read from it: every reader of a table carries them
 // (a hidden sheet named, '#' lines holding values), however it was read.
