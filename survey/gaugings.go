@@ -103,8 +103,10 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // (ErrDuplicateTime; times with offsets compare as instants), a year
 // outside MinYear to MaxYear (ErrYear), and a time written with a UTC
 // offset in a table whose first time has none, or the other way round
-// (ErrMixedOffsets). A missing column is the error of Table.Require, a
-// table without rows ErrEmpty. A text column after a number column holding
+// (ErrMixedOffsets). A time-zone column (TimeZoneColumns) gives each
+// row's time its offset (see zonedTime: ErrZone, ErrZoneBlank,
+// ErrZoneDisagrees at the zone cell). A missing column is the error of
+// Table.Require, a table without rows ErrEmpty. A text column after a number column holding
 // a bare digit string after a whole number on most rows is refused
 // (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge heights spanning
 // more than a river rises are warned of by Gaugings.SpanWarnings once the
@@ -227,6 +229,7 @@ func twinGaugingWarnings(gs []gauged.Gauging) []string {
 type gaugingCols struct {
 	time, stage, discharge              int
 	quality, note, uncertainty, exclude int
+	zone                                int
 }
 
 // gaugingColsOf finds the columns of a gaugings table: time, stage (or
@@ -245,7 +248,10 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	}
 	c.quality, c.note = t.Column(ColGaugingQuality), t.Column(ColNote)
 	c.uncertainty, c.exclude = t.Column(ColGaugingUncertainty), t.Column(ColGaugingExclude)
-	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude)
+	if c.zone, err = zoneColumn(t); err != nil {
+		return c, err
+	}
+	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude, c.zone)
 }
 
 // splitNumbers returns the error (ErrSplitNumber) of a quality, note or
@@ -316,14 +322,15 @@ func (rd *gaugingReader) time(rec Record, g *gauged.Gauging) bool {
 		rd.add(rec, ct, ErrBlankTime)
 		return false
 	}
-	sec, zone, zoned, err := cellTimeZone(s, t.Sheet != "", t.Date1904, rd.off)
-	if err == nil {
-		if rd.form.row == 0 {
-			rd.times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
-		}
-		err = rd.form.check(rec.Row, zoned)
+	sec, zone, zoned, perr := t.readTime(rec, ct, rd.cols.zone, rd.off)
+	if perr != nil {
+		rd.errs = append(rd.errs, perr)
+		return false
 	}
-	if err != nil {
+	if rd.form.row == 0 {
+		rd.times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
+	}
+	if err := rd.form.check(rec.Row, zoned); err != nil {
 		rd.add(rec, ct, err)
 		return false
 	}

@@ -196,7 +196,7 @@ func instant(sec, zone int64, zoned bool) time.Time {
 // zoned tells whether the text carries a UTC offset of its own, zone the
 // offset it was read at (seconds east: the written one, else off). It is
 // the one parser of times: every reader of times comes to it, through
-// cellTime, cellTimeZone or ParseISOTime.
+// cellTimeZone (zonedTime) or ParseISOTime.
 func parseISOZone[T string | []byte](b T, off int64) (sec, zone int64, zoned bool, err error) {
 	n := len(b)
 	if n < 10 || b[4] != '-' || b[7] != '-' {
@@ -367,20 +367,15 @@ func checkOffset(off time.Duration) (int64, error) {
 	return int64(off / time.Second), nil
 }
 
-// cellTime reads a time cell of a record or a diagram: ISO 8601 text
+// cellTimeZone reads a time cell of a record or a diagram: ISO 8601 text
 // (see ParseISOTime), or in a workbook a date serial (local time at the
 // offset off, in seconds), rounded to the second. zoned tells a text
-// written with a UTC offset of its own (a serial has none). In a CSV file
-// a bare number is ErrSerialInCSV; in a workbook a number that would be a
-// date before PlainSerialMinYear is ErrPlainNumberTime; a year outside
-// MinYear to MaxYear is ErrYear.
-func cellTime[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec int64, zoned bool, err error) {
-	sec, _, zoned, err = cellTimeZone(s, inWorkbook, date1904, off)
-	return sec, zoned, err
-}
-
-// cellTimeZone is cellTime, also returning the offset the time was read at
-// (seconds east: the one written with it, else off).
+// written with a UTC offset of its own (a serial has none), zone the
+// offset the time was read at (seconds east: the one written with it,
+// else off). In a CSV file a bare number is ErrSerialInCSV; in a workbook
+// a number that would be a date before PlainSerialMinYear is
+// ErrPlainNumberTime; a year outside MinYear to MaxYear is ErrYear. A
+// table with a time-zone column reads its times through zonedTime.
 func cellTimeZone[T string | []byte](s T, inWorkbook, date1904 bool, off int64) (sec, zone int64, zoned bool, err error) {
 	sec, zone, zoned, err = parseISOZone(s, off)
 	if err == nil || !errors.Is(err, ErrISOTime) {

@@ -97,7 +97,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 		return out, err
 	}
 	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, false, 0)...)
-	vf := validFromReader{t: t, col: cv}
+	vf, err := newValidFromReader(t, cv, 0)
+	if err != nil {
+		return out, err
+	}
 	periods := 0 // the rating periods of the times read, grouped as RatingTablesFromTable groups them
 	var lastFrom time.Time
 	cells := rowCells{t: t}

@@ -80,13 +80,29 @@ type RatingTables struct {
 var ErrValidFromBlank = errors.New("the first row of a table with a valid_from column needs a time")
 
 // validFromReader reads the times of a valid_from column (col) as
-// RatingTablesFromTable and RatingFromTable read them: cellTime at the
-// offset off (seconds), every time of one form (ErrMixedOffsets).
+// RatingTablesFromTable and RatingFromTable read them: cellTimeZone at the
+// offset off (seconds), or zonedTime beside a time-zone column, every time
+// of one form (ErrMixedOffsets).
 type validFromReader struct {
 	t    *Table
 	col  int
+	zone int // the time-zone column, -1 for none (see zonedTime)
 	off  int64
 	form offsetForm
+}
+
+// newValidFromReader reads the times of t's valid_from column col at the
+// offset off (seconds), beside its time-zone column if it has one; a
+// header naming that column twice is refused (ErrAliasColumns).
+func newValidFromReader(t *Table, col int, off int64) (*validFromReader, error) {
+	zone, err := zoneColumn(t)
+	if err != nil {
+		return nil, err
+	}
+	if err := t.unsavedIn(zone); err != nil {
+		return nil, err
+	}
+	return &validFromReader{t: t, col: col, zone: zone, off: off}, nil
 }
 
 // read returns the time of rec's valid_from cell; given is false when the
@@ -98,11 +114,11 @@ func (r *validFromReader) read(rec Record) (from time.Time, given bool, err *Par
 	if s == "" {
 		return time.Time{}, false, nil
 	}
-	sec, zoned, cerr := cellTime(s, t.Sheet != "", t.Date1904, r.off)
-	if cerr == nil {
-		cerr = r.form.check(rec.Row, zoned)
+	sec, _, zoned, perr := t.readTime(rec, r.col, r.zone, r.off)
+	if perr != nil {
+		return time.Time{}, true, perr
 	}
-	if cerr != nil {
+	if cerr := r.form.check(rec.Row, zoned); cerr != nil {
 		return time.Time{}, true, t.At(rec, r.col, cerr)
 	}
 	return time.Unix(sec, 0).UTC(), true, nil
@@ -134,7 +150,8 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 // valid_from time (a blank valid_from, or the same instant as the row
 // above, continues the rating above; the times all with a UTC offset or
 // all without, ErrMixedOffsets at the first that differs, each of the
-// years MinYear to MaxYear, ErrYear). Stage and discharge are bounded as
+// years MinYear to MaxYear, ErrYear; a time-zone column gives each its
+// offset, see zonedTime). Stage and discharge are bounded as
 // in RatingFromTable (ErrImplausible at the cell). Rows
 // must ascend in stage with discharge rising once above zero (see
 // gauged.RatingTable.Validate); periods must ascend in time. Units written
@@ -165,7 +182,10 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, opt.HasZeroFlow, opt.ZeroFlow)...)
 	var errs errorList
 	var groups []ratingGroup
-	vf := validFromReader{t: t, col: cv, off: off}
+	vf, err := newValidFromReader(t, cv, off)
+	if err != nil {
+		return out, err
+	}
 	for _, rec := range t.Records {
 		if cv >= 0 {
 			if from, given, perr := vf.read(rec); given {

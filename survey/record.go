@@ -123,7 +123,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // a quality column is optional and other columns are ignored.
 //
 // Times are ISO 8601 (see ParseISOTime), all with an offset or all
-// without. Every bad cell is reported with its position (file:row:column),
+// without; a time-zone column (TimeZoneColumns) gives each row's time its
+// offset (see zonedTime). Every bad cell is reported with its position (file:row:column),
 // at most MaxReported of them: an unreadable time or stage, a year outside
 // MinYear to MaxYear (ErrYear), a time whose offset, or lack of one,
 // differs from the first time's (ErrMixedOffsets), a stage beyond
@@ -232,7 +233,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 			if err := unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it"); err != nil {
 				return nil, err
 			}
-			if err := unsavedError(path, sheet, b.header, unsaved, int64(n)+1, MaxSheetRows, []int{b.ct, b.cs, b.cq}, "in the columns read"); err != nil {
+			if err := unsavedError(path, sheet, b.header, unsaved, int64(n)+1, MaxSheetRows, []int{b.ct, b.cs, b.cq, b.cz}, "in the columns read"); err != nil {
 				return nil, err
 			}
 			continue
@@ -261,6 +262,7 @@ type stageBuilder struct {
 	headerRow            int
 	width                int // columns up to the header's last named one
 	ct, cs, cq           int
+	cz                   int // the time-zone column, -1 for none
 	out                  *StageRecord
 	quality              map[string]uint16
 	lastSec              int64 // time of the last row with a usable time
@@ -299,6 +301,9 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	b.cq = t.Column(ColRecordQuality)
+	if b.cz, err = zoneColumn(t); err != nil {
+		return err
+	}
 	if b.out.Units, err = t.HeaderUnits(b.cs); err != nil {
 		return err
 	}
@@ -394,7 +399,22 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		b.fail(row, b.ct, nil, ErrBlankTime)
 		return
 	}
-	sec, zone, zoned, err := cellTimeZone(ts, b.inWorkbook, b.date1904, b.off)
+	var sec, zone int64
+	var zoned bool
+	var err error
+	if b.cz >= 0 {
+		// A time-zone column gives every time an offset: its own, else
+		// the zone cell's.
+		zs := cell(b.cz)
+		var atZone bool
+		if sec, zone, atZone, err = zonedTime(ts, zs, b.inWorkbook, b.date1904); atZone {
+			b.fail(row, b.cz, zs, err)
+			return
+		}
+		zoned = true
+	} else {
+		sec, zone, zoned, err = cellTimeZone(ts, b.inWorkbook, b.date1904, b.off)
+	}
 	if err == nil {
 		if b.form.row == 0 {
 			b.out.Times = TimeForm{Offsets: zoned, First: time.Duration(zone) * time.Second}
@@ -413,7 +433,7 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 			if !zoned && b.off != 0 && b.lastSec-sec <= 3600 {
 				// Local times (an offset given for them) stepping back
 				// an hour at most: most likely the clock change.
-				hint = " (a clock set back an hour, as for daylight saving, repeats times: write each time with its UTC offset)"
+				hint = " (a clock set back an hour, as for daylight saving, repeats times: write each time with its UTC offset, or its zone in a tz column)"
 			}
 			b.fail(row, b.ct, ts, fmt.Errorf("%w: %s is before %s, the time of row %d%s", ErrTimeOrder,
 				formatUnixAt(sec, b.off), formatUnixAt(b.lastSec, b.off), b.lastRow, hint))
@@ -550,7 +570,7 @@ func (c *clockAhead) warning(file string, off int64) string {
 	}
 	return fmt.Sprintf("%s: %s where the times, written without a UTC offset and read %s, jump ahead one hour more than the record's interval "+
 		"(the first from %s to %s, row %d): most likely a clock set forward for daylight saving, which a fixed offset does not follow, "+
-		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset",
+		"so the readings after it are an hour off and the skipped hour is bridged as if read; write each time with its UTC offset, or its zone in a tz column",
 		file, rating.Counted(c.count, "place", "places"), read, formatUnixAt(c.from, off), formatUnixAt(c.to, off), c.row)
 }
 

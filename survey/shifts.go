@@ -88,7 +88,8 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // and checked by gauged.DiagramsFromRows. Every bad cell is reported with
 // its position (a year outside MinYear to MaxYear is ErrYear, a time
 // whose offset, or lack of one, differs from the first time's
-// ErrMixedOffsets), and so is the row that makes a diagram fall faster
+// ErrMixedOffsets; a time-zone column gives each row's time its offset, see
+// zonedTime), and so is the row that makes a diagram fall faster
 // than the stage rises (gauged.ErrShiftSlope). Units written in the stage,
 // shift and taper headers are reported in Units; an unknown unit
 // (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an error
@@ -109,6 +110,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 		return out, err
 	}
 	cols[ColShiftTaper], cols[ColShiftAbrupt] = t.Column(ColShiftTaper), t.Column(ColShiftAbrupt)
+	if cols[ColTimeZone], err = zoneColumn(t); err != nil {
+		return out, err
+	}
 	if out.Units, err = t.HeaderUnits(cols[ColShiftStage], cols[ColShift], cols[ColShiftTaper]); err != nil {
 		return out, err
 	}
@@ -161,12 +165,15 @@ func shiftRow(t *Table, rec Record, cols map[string]int, off int64, form *offset
 	case s == "":
 		bad(ct, ErrBlankTime)
 	default:
-		sec, zoned, err := cellTime(s, t.Sheet != "", t.Date1904, off)
-		if err == nil {
-			err = form.check(rec.Row, zoned)
-		}
-		if err != nil {
-			bad(ct, err)
+		sec, _, zoned, perr := t.readTime(rec, ct, cols[ColTimeZone], off)
+		switch {
+		case perr != nil:
+			*errs = append(*errs, perr)
+			ok = false
+		default:
+			if err := form.check(rec.Row, zoned); err != nil {
+				bad(ct, err)
+			}
 		}
 		r.Time = time.Unix(sec, 0).UTC()
 	}
