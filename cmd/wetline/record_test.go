@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -701,5 +702,73 @@ func TestRecordOffsetsDiffer(t *testing.T) {
 		if got := strings.Contains(out+errs, "writes its times with a UTC offset (the first +10:00) and "+recStages+" without one, read as UTC"); got != tc.warn {
 			t.Errorf("%v: warned %v, want %v: %s", tc.extra, got, tc.warn, errs)
 		}
+	}
+}
+
+// TestRecordWorkbookTimeCells: the ratings and shifts sheets of a record
+// workbook hold their times as date cells, as the unit and daily sheets
+// do, at the wall clock of --utc-offset, with that offset in a tz column;
+// the shifts sheet reads back as the diagrams read from the CSV, whatever
+// offset the second run gives.
+func TestRecordWorkbookTimeCells(t *testing.T) {
+	t.Parallel()
+	book := filepath.Join(t.TempDir(), "record.xlsx")
+	if _, errs, code := runCLI(t, recordArgs("--utc-offset", "+10:00", "-o", book)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	for _, c := range []struct {
+		sheet, time, zone, shown string
+	}{
+		{results.SheetUnit, "A2", "", "2024-05-01 00:00"},
+		{results.SheetRatings, "B6", "F6", "2024-05-02 12:00"}, // rating B, from 2024-05-02T12:00 at +10:00
+		{results.SheetShifts, "A2", "H2", "2024-05-01 00:00"},  // the first diagram of testdata/record/shifts.csv
+	} {
+		raw, err := f.GetCellValue(c.sheet, c.time, excelize.Options{RawCellValue: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := strconv.ParseFloat(raw, 64); err != nil {
+			t.Errorf("%s!%s holds %q, not a date serial", c.sheet, c.time, raw)
+		}
+		if shown, _ := f.GetCellValue(c.sheet, c.time); shown != c.shown {
+			t.Errorf("%s!%s shows %q, want %q", c.sheet, c.time, shown, c.shown)
+		}
+		if c.zone != "" {
+			if z, _ := f.GetCellValue(c.sheet, c.zone); z != "+10:00" {
+				t.Errorf("%s!%s zone %q, want +10:00", c.sheet, c.zone, z)
+			}
+		}
+	}
+	diagrams := func(args ...string) string {
+		out, errs, code := runCLI(t, append([]string{"record", recStages, "--rating", recRatingA, "--format", "json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		var doc struct {
+			Shifts []struct {
+				Time string `json:"time"`
+			} `json:"shifts"`
+		}
+		if err := json.Unmarshal([]byte(out), &doc); err != nil {
+			t.Fatal(err)
+		}
+		var times []string
+		for _, s := range doc.Shifts {
+			tm, err := time.Parse(time.RFC3339, s.Time)
+			if err != nil {
+				t.Fatal(err)
+			}
+			times = append(times, tm.UTC().Format(time.RFC3339))
+		}
+		return strings.Join(times, " ")
+	}
+	want := diagrams("--shifts", recShifts, "--utc-offset", "+10:00")
+	if got := diagrams("--shifts", book, "--shifts-sheet", results.SheetShifts, "--utc-offset", "-05:00"); got != want {
+		t.Errorf("the shifts sheet reads back at %s, want %s", got, want)
 	}
 }

@@ -63,11 +63,12 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 //   - daily values: RecordDailyColumns(), dates and times in the record's
 //     zone;
 //   - unit values: RecordUnitColumns(), when asked for;
-//   - ratings: every period's table (period, valid_from, stage,
-//     discharge);
+//   - ratings: every period's table (period, valid_from, rating, stage,
+//     discharge, tz), the period's start a date cell with its zone;
 //   - shifts: the diagrams used in the columns of a shift table
-//     (survey.ShiftColumns(), times as ISO 8601 text with their offset),
-//     so the sheet reads back as shift diagrams, and the rating period;
+//     (survey.ShiftColumns(), times as date cells), the rating period,
+//     the source and the times' zone (tz), so the sheet reads back as
+//     shift diagrams;
 //   - gaugings: each gauging within the record's span against the record,
 //     when given, its recorded stage and the difference stage − recorded
 //     after the columns of the shifts workbook's gaugings sheet
@@ -259,31 +260,40 @@ func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 
 // writeRatingsSheet writes every period's table, the period's start on
 // its first row.
+//
+// A period's start is a date cell at the wall clock of zone z, its zone in
+// the tz column after the others (see zoneCell), so that the sheet reads
+// back at the same instants whatever offset the reader is given; the
+// first period's open start is the text "the beginning".
 func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u rating.Units) error {
 	s, err := reportTable(b, SheetRatings, []workbook.Column{
 		{Name: "period", Format: "0"},
-		{Name: "valid_from", Format: workbook.FormatText, Width: 26},
+		{Name: "valid_from", Format: workbook.FormatDateTime, Width: 17},
 		{Name: "rating", Width: 30},
 		{Name: "stage", Unit: u.Length(), Format: "0.000"},
 		{Name: "discharge", Unit: u.Discharge(), Format: workbook.FormatSig3},
+		{Name: survey.ColTimeZone, Width: 8},
 	})
 	if err != nil {
 		return err
 	}
 	for i, p := range ps {
-		from := fromText(p.from, z)
+		var from, tz any = fromText(p.from, z), nil
+		if !p.from.IsZero() {
+			from, tz = wallClock(p.from, z), zoneCell(z)
+		}
 		if p.rating == nil {
-			if err := s.Row(i+1, from, "none: no discharge"); err != nil {
+			if err := s.Row(i+1, from, "none: no discharge", nil, nil, tz); err != nil {
 				return err
 			}
 			continue
 		}
 		for k, r := range p.rating.Points {
-			var f, name any
+			var f, name, zc any
 			if k == 0 {
-				f, name = from, p.rating.Name
+				f, name, zc = from, p.rating.Name, tz
 			}
-			if err := s.Row(i+1, f, name, r.Stage, r.Discharge); err != nil {
+			if err := s.Row(i+1, f, name, r.Stage, r.Discharge, zc); err != nil {
 				return err
 			}
 		}
@@ -291,19 +301,37 @@ func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u ra
 	return s.Flush()
 }
 
+// zoneCell is the time-zone cell of times written at the wall clock of
+// zone z: its offset as survey.ParseZone reads it ("UTC", "+10:00").
+func zoneCell(z *time.Location) string {
+	_, off := time.Unix(0, 0).In(z).Zone()
+	if off == 0 {
+		return "UTC"
+	}
+	sign := "+"
+	if off < 0 {
+		sign, off = "-", -off
+	}
+	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
+}
+
 // writeShiftsSheet writes diagrams in the columns of a shift table, times
-// as ISO 8601 text with their offset, and the rating period of each.
+// as date cells at the wall clock of zone z, and the rating period and
+// source of each, then the times' zone (a tz column, see zoneCell) so that
+// the sheet reads back as the same diagrams whatever offset the reader is
+// given.
 func writeShiftsSheet(b *workbook.Book, name string, ss []shiftInfo, z *time.Location, u rating.Units) error {
 	L := u.Length()
 	names := survey.ShiftColumns()
 	cols := []workbook.Column{
-		{Name: names[0], Format: workbook.FormatText, Width: 26},
+		{Name: names[0], Format: workbook.FormatDateTime, Width: 17},
 		{Name: names[1], Unit: L, Format: "0.000"},
 		{Name: names[2], Unit: L, Format: "0.000"},
 		{Name: names[3], Unit: L, Format: "0.000"},
 		{Name: names[4], Width: 9},
 		{Name: "rating_period", Format: "0"},
 		{Name: "source", Width: 24},
+		{Name: survey.ColTimeZone, Width: 8},
 	}
 	s, err := reportTable(b, name, cols)
 	if err != nil {
@@ -318,7 +346,7 @@ func writeShiftsSheet(b *workbook.Book, name string, ss []shiftInfo, z *time.Loc
 			if d.period >= 0 {
 				period = d.period + 1
 			}
-			if err := s.Row(r.Time.In(z).Format(RecordTimeLayout), r.Stage, r.Shift, taper, yes(r.Abrupt), period, r.Source); err != nil {
+			if err := s.Row(wallClock(r.Time, z), r.Stage, r.Shift, taper, yes(r.Abrupt), period, r.Source, zoneCell(z)); err != nil {
 				return err
 			}
 		}

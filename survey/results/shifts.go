@@ -285,8 +285,8 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 //   - gaugings: each gauging against the rating in force, with its
 //     shifts (ShiftGaugingColumns() with units);
 //   - proposed shifts: each visit's proposed diagram in the columns of a
-//     shift table, times as ISO 8601 text, so the sheet reads back as
-//     shift diagrams;
+//     shift table, times as date cells with their zone in a tz column,
+//     so the sheet reads back as shift diagrams;
 //   - ratings and shifts: the periods' tables and the diagrams applied;
 //   - plots: the figures, when drawn.
 func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
