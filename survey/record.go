@@ -42,7 +42,7 @@ type StageRecord struct {
 	// File and Sheet say where the record came from.
 	File, Sheet string
 	// Blank is the number of rows with a time but no stage (read as
-	// missing readings).
+	// missing readings, whose times are Stages.Missing).
 	Blank int
 	// Units is what the stage header says of the unit system
 	// ("stage (ft)"); nothing is converted.
@@ -137,8 +137,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
-// it. A row with a time and a blank stage is a missing reading: it is
-// left out and counted in Blank. Times written without an offset that jump
+// it. A row with a time and a blank stage is a missing reading: its time
+// is kept in Stages.Missing and counted in Blank. Times written without an offset that jump
 // ahead one hour more than the record's interval, as a clock set forward
 // for daylight saving does early on a Sunday, are warned of (see
 // clockAhead).
@@ -447,6 +447,7 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 	st := &b.out.Stages
 	if len(hs) == 0 {
 		b.out.Blank++
+		st.Missing = append(st.Missing, sec)
 		return
 	}
 	h, err := parseDecimal(hs)
@@ -498,7 +499,7 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 		return nil, &ParseError{File: b.file, Sheet: b.sheet, Row: b.headerRow, Err: err}
 	}
 	if n := b.out.Blank; n > 0 {
-		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %s with a time but no stage, read as missing readings", b.file, rating.Counted(n, "row", "rows")))
+		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %s with a time but no stage, read as missing readings (flagged missing in the unit values)", b.file, rating.Counted(n, "row", "rows")))
 	}
 	if w := b.ahead.warning(b.file, b.off); w != "" {
 		b.out.Warnings = append(b.out.Warnings, w)

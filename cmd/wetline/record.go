@@ -463,7 +463,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 	st := &sr.Stages
 	if format == "xlsx" {
 		days := int((st.Time[st.Len()-1]-st.Time[0])/86400) + 2
-		if err := results.CheckRecordWorkbook(st.Len(), days, tables); err != nil {
+		if err := results.CheckRecordWorkbook(st.Len()+len(st.Missing), days, tables); err != nil {
 			return nil, fmt.Errorf("record: %s: %w", path, err)
 		}
 	}

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -770,5 +771,79 @@ func TestRecordWorkbookTimeCells(t *testing.T) {
 	want := diagrams("--shifts", recShifts, "--utc-offset", "+10:00")
 	if got := diagrams("--shifts", book, "--shifts-sheet", results.SheetShifts, "--utc-offset", "-05:00"); got != want {
 		t.Errorf("the shifts sheet reads back at %s, want %s", got, want)
+	}
+}
+
+// TestRecordMissingReadings: a row with a time and no stage is a missing
+// reading (README, File formats): every format lists it among the unit
+// values, between its neighbours, flagged missing with no discharge, and
+// the daily values are those of the record without the row.
+func TestRecordMissingReadings(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	data, err := os.ReadFile(recStages)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const at = "2024-05-01T04:30"
+	with := strings.Replace(string(data), "2024-05-01T06:00,", at+",,\n2024-05-01T06:00,", 1)
+	stages := filepath.Join(dir, "stage-missing.csv")
+	if err := os.WriteFile(stages, []byte(with), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := func(stages string, extra ...string) []string {
+		a := []string{"record", stages, "--rating", recRatingA, "--zero-flow", "0.2", "--max-gap", "4h"}
+		return append(a, extra...)
+	}
+	csvOut, errs, code := runCLI(t, args(stages, "--unit", "--format", "csv")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if want := "\n2024-05-01T03:00:00Z,0.55,"; !strings.Contains(csvOut, want+"") {
+		t.Fatalf("csv lacks %q:\n%s", want, csvOut)
+	}
+	if want := "\n2024-05-01T04:30:00Z,,,,,missing,,\n2024-05-01T06:00:00Z,0.61,"; !strings.Contains(csvOut, want) {
+		t.Errorf("csv lacks %q:\n%s", want, csvOut)
+	}
+	jsonOut, errs, code := runCLI(t, args(stages, "--unit", "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if want := `{"time": "2024-05-01T04:30:00Z", "stage": null, "shift": null, "effective_stage": null, "discharge": null, "flags": ["missing"], "rating_period": null, "quality": null}`; !strings.Contains(jsonOut, want) {
+		t.Errorf("json lacks %q", want)
+	}
+	text, errs, code := runCLI(t, args(stages, "--unit")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !regexp.MustCompile(`\n  2024-05-01T04:30:00Z +- +- +- +- +-  missing\n`).MatchString(text) || !strings.Contains(text, "missing 1;") {
+		t.Errorf("text lacks the missing reading:\n%s", text)
+	}
+	book := filepath.Join(dir, "record.xlsx")
+	if _, errs, code := runCLI(t, args(stages, "--unit", "-o", book)...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := f.GetRows(results.SheetUnit)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) < 4 || rows[3][0] != "2024-05-01 04:30" || rows[3][1] != "" || rows[3][4] != "" || rows[3][5] != "missing" {
+		t.Errorf("unit sheet rows %q", rows[:min(len(rows), 5)])
+	}
+	// The daily values are the record's without the row.
+	daily := func(stages string) string {
+		out, errs, code := runCLI(t, args(stages, "--format", "csv")...)
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errs)
+		}
+		return out
+	}
+	if got, want := daily(stages), daily(recStages); got != want {
+		t.Errorf("daily values with the missing reading:\n%s\nwithout it:\n%s", got, want)
 	}
 }

@@ -3,6 +3,7 @@ package record
 import (
 	"errors"
 	"fmt"
+	"iter"
 	"math"
 	"strings"
 	"time"
@@ -153,6 +154,13 @@ type Result struct {
 	UnitSystem rating.Units
 	// Units are the unit values, one per reading, in time order.
 	Units []UnitValue
+	// Missing are the missing readings, in time order: the record's
+	// Stages.Missing (stage NaN) and the readings read as missing-value
+	// codes (their stage as read; see Compute), each flagged Missing with
+	// no shift, effective stage, discharge or rating period. They are not
+	// among Units, and take no part in any value computed; a unit table
+	// lists them among Units (UnitRows).
+	Missing []UnitValue
 	// Daily are the calendar days from the first reading's to the last's.
 	Daily []DailyValue
 	// Qualities are the stage record's quality words (see UnitValue.Quality).
@@ -194,6 +202,9 @@ type Result struct {
 // zero at or below the rating's zero-flow stage. Readings outside every
 // rating period, in a period without a rating or outside the rating table
 // (without extrapolation) have no discharge and are flagged.
+// Missing readings (Stages.Missing, and readings read as missing-value
+// codes) are listed in Result.Missing, flagged Missing, and computed with
+// nothing.
 //
 // A daily mean is the time-weighted mean of the unit discharges over the
 // covered part of the day, by the trapezoidal rule between readings,
@@ -248,9 +259,10 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	st, units, codes := rateReadings(st, r, zone(off))
+	missing := st.Missing
+	st, units, codes, dropped := rateReadings(st, r, zone(off))
 	res := &Result{
-		Name: st.Name, Units: units, Qualities: append([]string(nil), st.Qualities...),
+		Name: st.Name, Units: units, Missing: missingValues(missing, dropped), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
 		Zone: zone(off), UnitSystem: opt.UnitSystem, StageTolerance: tol,
 	}
@@ -385,7 +397,7 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 // itself when none is left out) and their unit values, and the warning,
 // "" when none is left out, that counts them and names the first. One
 // unit value a reading is all it holds.
-func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []UnitValue, string) {
+func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []UnitValue, string, []UnitValue) {
 	units := make([]UnitValue, len(st.Time))
 	drop := make([]bool, len(st.Time))
 	first, n := -1, 0
@@ -412,12 +424,14 @@ func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []Uni
 		}
 	}
 	if first < 0 {
-		return st, units, ""
+		return st, units, "", nil
 	}
 	out := &Stages{Name: st.Name, Qualities: st.Qualities}
+	dropped := make([]UnitValue, 0, n)
 	kept := units[:0] // compacted in place
 	for i := range st.Time {
 		if drop[i] {
+			dropped = append(dropped, missingValue(st.Time[i], st.Stage[i], units[i].Quality))
 			continue
 		}
 		out.Time = append(out.Time, st.Time[i])
@@ -428,10 +442,59 @@ func rateReadings(st *Stages, r *gauged.Rater, z *time.Location) (*Stages, []Uni
 		kept = append(kept, units[i])
 	}
 	return out, kept, fmt.Sprintf("%s %s below the lowest row of %s rating table by more than the table's whole stage range "+
-		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings",
+		"(the first %g at %s): read as missing-value codes (such as -9999), left out as missing readings (flagged missing)",
 		rating.Counted(n, "reading", "readings"), rating.Agree(n, "lies", "lie"), rating.Agree(n, "its", "their"), st.Stage[first],
-		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339))
+		time.Unix(st.Time[first], 0).In(z).Format(time.RFC3339)), dropped
 }
+
+// missingValue is the unit value of a missing reading at time t, of
+// gauge height h as read (NaN for none) and quality q.
+func missingValue(t int64, h float64, q uint16) UnitValue {
+	return UnitValue{Time: t, Stage: h, Shift: math.NaN(), Effective: math.NaN(), Discharge: math.NaN(), Period: -1, Quality: q, Flags: Missing}
+}
+
+// missingValues merges the times of readings with no stage and the unit
+// values of the readings left out as codes (both ascending) into the
+// missing readings of a Result, in time order.
+func missingValues(blank []int64, codes []UnitValue) []UnitValue {
+	if len(blank)+len(codes) == 0 {
+		return nil
+	}
+	out := make([]UnitValue, 0, len(blank)+len(codes))
+	i, j := 0, 0
+	for i < len(blank) || j < len(codes) {
+		if j == len(codes) || i < len(blank) && blank[i] < codes[j].Time {
+			out = append(out, missingValue(blank[i], math.NaN(), 0))
+			i++
+			continue
+		}
+		out = append(out, codes[j])
+		j++
+	}
+	return out
+}
+
+// UnitRows returns the unit table of the record: Units and Missing merged
+// in time order (no two share a time).
+func (res *Result) UnitRows() iter.Seq[UnitValue] {
+	return func(yield func(UnitValue) bool) {
+		i, j := 0, 0
+		for i < len(res.Units) || j < len(res.Missing) {
+			var u UnitValue
+			if j == len(res.Missing) || i < len(res.Units) && res.Units[i].Time < res.Missing[j].Time {
+				u, i = res.Units[i], i+1
+			} else {
+				u, j = res.Missing[j], j+1
+			}
+			if !yield(u) {
+				return
+			}
+		}
+	}
+}
+
+// UnitRowCount is the number of rows of the unit table (UnitRows).
+func (res *Result) UnitRowCount() int { return len(res.Units) + len(res.Missing) }
 
 // unitValues finishes the unit values rateReadings made: it marks the
 // gaps longer than maxGap, counts each period's readings, gathers the

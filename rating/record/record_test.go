@@ -324,7 +324,7 @@ func TestFlagWords(t *testing.T) {
 	if s := (Gap | AboveGaugings | Partial).String(); s != "above_gaugings gap partial" {
 		t.Errorf("flags %q", s)
 	}
-	if len(FlagWords()) != 7 || Flag(0).String() != "" {
+	if len(FlagWords()) != 8 || Flag(0).String() != "" {
 		t.Errorf("words %q", FlagWords())
 	}
 }
@@ -555,5 +555,45 @@ func TestReadingsOutsideRating(t *testing.T) {
 	none := rater(t, gauged.History{Periods: []gauged.Period{{From: time.Unix(at(100), 0), Rating: linear("q=10h", 10)}}})
 	if _, err := Compute(stages(0, 5, 1, 5), none, Options{}); !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "2 of 2 readings have no rating in force") {
 		t.Errorf("no rating: %v", err)
+	}
+}
+
+// TestMissingReadings: the record's missing readings (times without a
+// gauge height) and the readings read as missing-value codes are listed in
+// Result.Missing, flagged Missing with no discharge, merged into the unit
+// table in time order by UnitRows, and change no daily value: the day is
+// that of the readings alone (on Q = 10·h: 00:00 h=1 to 02:00 h=3, mean
+// ½(10+30)·2 h / 2 h = 20 by hand).
+func TestMissingReadings(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	st := stages(0, 1, 1.5, -9999, 2, 3)
+	st.Missing = []int64{at(0.5), at(3)}
+	res := compute(t, st, r, Options{})
+	if len(res.Units) != 2 || len(res.Missing) != 3 || res.UnitRowCount() != 5 {
+		t.Fatalf("%d units, %d missing", len(res.Units), len(res.Missing))
+	}
+	var times []int64
+	for u := range res.UnitRows() {
+		times = append(times, u.Time)
+		missing := u.Time != at(0) && u.Time != at(2)
+		if missing != (u.Flags == Missing) || missing && (!math.IsNaN(u.Discharge) || u.Period != -1) {
+			t.Errorf("row at %d: %+v", u.Time, u)
+		}
+	}
+	if want := []int64{at(0), at(0.5), at(1.5), at(2), at(3)}; !slices.Equal(times, want) {
+		t.Errorf("unit rows at %v, want %v", times, want)
+	}
+	if code := res.Missing[1]; code.Stage != -9999 {
+		t.Errorf("the code's row %+v, want its stage as read", code)
+	}
+	if d := res.Daily[0]; math.Abs(d.Mean-20) > integralTol || d.Readings != 2 {
+		t.Errorf("day %+v, want mean 20 of 2 readings", d)
+	}
+	if s := Missing.String(); s != "missing" {
+		t.Errorf("flag %q", s)
+	}
+	st.Missing = []int64{at(3), at(0.5)}
+	if _, err := Compute(st, r, Options{}); !errors.Is(err, ErrStagesOrder) {
+		t.Errorf("missing readings out of order: %v, want %v", err, ErrStagesOrder)
 	}
 }

@@ -23,6 +23,11 @@ type Stages struct {
 	// Qualities are the distinct quality words of the record; the first is
 	// "" (no quality).
 	Qualities []string
+	// Missing holds the times (Unix seconds, strictly ascending, none of
+	// them in Time) of the record's missing readings: times written with
+	// no gauge height. They are listed in the unit values, flagged
+	// Missing, and take no part in any computation.
+	Missing []int64
 }
 
 // Len is the number of readings.
@@ -96,6 +101,14 @@ func (s *Stages) Validate() error {
 			return &StagesError{Index: i, Err: ErrQualityIndex}
 		}
 	}
+	for i, t := range s.Missing {
+		if t < minTime || t > maxTime {
+			return &StagesError{Index: -1, Err: fmt.Errorf("missing reading %d: %w: %d seconds from 1970-01-01T00:00:00Z", i+1, ErrStagesTime, t)}
+		}
+		if i > 0 && t <= s.Missing[i-1] {
+			return &StagesError{Index: -1, Err: fmt.Errorf("missing reading %d: %w: %s after %s", i+1, ErrStagesOrder, utc(t), utc(s.Missing[i-1]))}
+		}
+	}
 	if first, last := s.Time[0], s.Time[n-1]; last-first > MaxSpan {
 		return &StagesError{Index: n - 1, Err: fmt.Errorf("%w: from %s to %s", ErrStagesSpan, utc(first), utc(last))}
 	}
@@ -137,10 +150,14 @@ const (
 	NoRating
 	// Partial: on a daily value, less than the whole day is covered.
 	Partial
+	// Missing: on a unit value, a missing reading (a time with no gauge
+	// height, or a missing-value code read as a stage): no shift,
+	// effective stage or discharge, and no part in the daily values.
+	Missing
 )
 
 // flagWords are the words of the flags, in bit order.
-var flagWords = [...]string{"above_gaugings", "below_zero_flow", "outside_rating", "extrapolated", "gap", "no_rating", "partial"}
+var flagWords = [...]string{"above_gaugings", "below_zero_flow", "outside_rating", "extrapolated", "gap", "no_rating", "partial", "missing"}
 
 // FlagWords returns the words of every flag, in bit order. The slice is new
 // on every call.

@@ -171,8 +171,8 @@ func WriteRecordCSV(w io.Writer, res *record.Result, tables RecordTables) error 
 	rw := newRowWriter(w)
 	if tables == UnitTable {
 		writeRecord(rw.w, RecordUnitColumns())
-		for i := range res.Units {
-			if err := rw.unitCSV(res, i); err != nil {
+		for u := range res.UnitRows() {
+			if err := rw.unitCSV(res, u); err != nil {
 				return err
 			}
 		}
@@ -187,9 +187,8 @@ func WriteRecordCSV(w io.Writer, res *record.Result, tables RecordTables) error 
 	return rw.w.Flush()
 }
 
-// unitCSV writes unit value i as a CSV row.
-func (rw *rowWriter) unitCSV(res *record.Result, i int) error {
-	u := res.Units[i]
+// unitCSV writes unit value u of res as a CSV row.
+func (rw *rowWriter) unitCSV(res *record.Result, u record.UnitValue) error {
 	b := appendTime(rw.b[:0], u.Time, res.Zone)
 	b = append(b, ',')
 	b = appendLength(b, u.Stage)
@@ -280,12 +279,14 @@ func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error
 		rw.w.WriteString("null")
 	} else {
 		rw.w.WriteString("[")
-		for i := range res.Units {
-			if err := rw.unitJSON(res, i); err != nil {
+		first := true
+		for u := range res.UnitRows() {
+			if err := rw.unitJSON(res, u, first); err != nil {
 				return err
 			}
+			first = false
 		}
-		rw.w.WriteString(listEnd(len(res.Units)))
+		rw.w.WriteString(listEnd(res.UnitRowCount()))
 	}
 	rw.w.WriteString(",\n  \"daily\": ")
 	if tables&DailyTable == 0 {
@@ -346,11 +347,11 @@ func appendJSONNumber(b []byte, start int) []byte {
 	return b
 }
 
-// unitJSON writes unit value i as a JSON object on a line of its own.
-func (rw *rowWriter) unitJSON(res *record.Result, i int) error {
-	u := res.Units[i]
+// unitJSON writes unit value u of res as a JSON object on a line of its
+// own, first of the list or after a comma.
+func (rw *rowWriter) unitJSON(res *record.Result, u record.UnitValue, first bool) error {
 	b := rw.b[:0]
-	if i > 0 {
+	if !first {
 		b = append(b, ',')
 	}
 	b = append(b, "\n    {\"time\": \""...)
@@ -465,6 +466,9 @@ func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 		fmt.Fprintf(bw, " from %s to %s", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout),
 			time.Unix(res.Units[n-1].Time, 0).In(res.Zone).Format(RecordTimeLayout))
 	}
+	if k := len(res.Missing); k > 0 {
+		fmt.Fprintf(bw, " and %s (flagged missing)", rating.Counted(k, "missing reading", "missing readings"))
+	}
 	fmt.Fprintf(bw, "\nUnits: %s (gauge heights and shifts in %s, discharge in %s); days taken in %s; gaps longer than %s are not bridged\n",
 		u, u.Length(), u.Discharge(), zoneName(res.Zone), record.FormatDuration(res.MaxGap))
 	bw.WriteString(siteLine(res.Provenance))
@@ -474,7 +478,7 @@ func writeRecordHead(bw *bufio.Writer, res *record.Result) {
 	ps, ss := recordInfo(res)
 	writeHistoryText(bw, ps, ss, res.Zone, u)
 	counts := make([]int, len(record.FlagWords()))
-	for _, v := range res.Units {
+	for v := range res.UnitRows() {
 		for b := range counts {
 			if v.Flags&(1<<b) != 0 {
 				counts[b]++
@@ -582,7 +586,7 @@ func writeUnitText(rw *rowWriter, res *record.Result) error {
 	u := res.UnitSystem
 	fmt.Fprintf(bw, "\nUnit values (gauge height, shift and effective gauge height in %s, discharge in %s):\n", u.Length(), u.Discharge())
 	fmt.Fprintf(bw, "  %-25s %9s %8s %9s %11s %6s  %s\n", "time", "stage", "shift", "effective", "discharge", "period", "flags")
-	for _, v := range res.Units {
+	for v := range res.UnitRows() {
 		b := append(rw.b[:0], "  "...)
 		c := rw.cell
 		c = appendTime(c[:0], v.Time, res.Zone)

@@ -79,7 +79,7 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 // (CheckRecordWorkbook). Table sheets are streamed.
 func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) error {
 	tables = DefaultTables(tables, "xlsx")
-	if err := CheckRecordWorkbook(len(res.Units), len(res.Daily), tables); err != nil {
+	if err := CheckRecordWorkbook(res.UnitRowCount(), len(res.Daily), tables); err != nil {
 		return err
 	}
 	b := newBook("record", res.Provenance.Site, res.Name)
@@ -150,6 +150,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"site", res.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"readings", len(res.Units), ""},
+		{"missing readings (flagged missing in the unit values)", len(res.Missing), ""},
 		{"days", len(res.Daily), ""},
 		{"days taken in", zoneName(res.Zone), ""},
 		{"longest gap bridged", record.FormatDuration(res.MaxGap), ""},
@@ -240,7 +241,7 @@ func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 		return err
 	}
 	vals := make([]any, 8)
-	for _, v := range res.Units {
+	for v := range res.UnitRows() {
 		vals = append(vals[:0], wallClock(time.Unix(v.Time, 0), res.Zone), v.Stage, v.Shift, v.Effective, v.Discharge, nil, nil, nil)
 		if v.Flags != 0 {
 			vals[5] = v.Flags.String()
