@@ -34,7 +34,7 @@ func ExampleParseStageRecord() {
 	// Output:
 	// 2024-05-01T00:00:00Z 0.512 ""
 	// 2024-05-01T00:30:00Z 0.518 "ice"
-	// tallow-stage.csv: 1 row with a time but no stage, read as missing readings
+	// tallow-stage.csv: 1 row with a time but no stage, read as missing readings (flagged missing in the unit values)
 	// bad.csv:3:1: time "2024-05-01T00:15": times must increase from row to row: 2024-05-01T00:15:00Z is before 2024-05-01T00:30:00Z, the time of row 2
 	// mixed.csv:3:1: time "2024-05-01T10:15+10:00": times with and without a UTC offset in one file: row 3 has one, row 2 has none
 }
