@@ -106,11 +106,11 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // (ErrMixedOffsets). A time-zone column (TimeZoneColumns) gives each
 // row's time its offset (see zonedTime: ErrZone, ErrZoneBlank,
 // ErrZoneDisagrees at the zone cell). A missing column is the error of
-// Table.Require, a table without rows ErrEmpty. A text column after a number column holding
-// a bare digit string after a whole number on most rows is refused
-// (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge heights spanning
-// more than a river rises are warned of by Gaugings.SpanWarnings once the
-// unit system is known.
+// Table.Require, a table without rows ErrEmpty. A text column after a
+// number column holding a bare digit string after a whole number on most
+// rows is refused (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge
+// heights spanning more than a river rises are warned of by
+// Gaugings.SpanWarnings once the unit system is known.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
 	return gaugingsFromTable(t, 0)
 }
