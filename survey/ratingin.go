@@ -171,25 +171,51 @@ func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units,
 	return
 }
 
-// ratingRow reads one row of a rating table: stage and discharge, each
-// NaN when blank or bad (the error kept in c), and the hydraulics of the
-// columns given (NaN when absent).
-// ratingRowColumns are the optional columns ratingRow reads.
-func ratingRowColumns() []string {
-	return []string{"depth", "area", "wetted_perimeter", "top_width", "hydraulic_radius", "conveyance",
-		"mean_velocity", "alpha", "froude", "hydraulic_depth", "beta", "shear_stress"}
+// ratingField is an optional column of a rating table and the field of
+// rating.Row it fills.
+type ratingField struct {
+	name string
+	set  func(r *rating.Row, v float64)
 }
 
-func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
-	opt := func(name string) float64 { return c.optional(rec, name) }
-	return rating.Row{
-		Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge),
-		Depth: opt("depth"), Area: opt("area"), WettedPerimeter: opt("wetted_perimeter"),
-		TopWidth: opt("top_width"), HydraulicRadius: opt("hydraulic_radius"),
-		Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
-		Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
-		Beta: opt("beta"), ShearStress: opt("shear_stress"),
+// ratingFields are the optional columns ratingRow reads, each with its
+// field: the one list both ratingRow and ratingRowColumns use.
+func ratingFields() []ratingField {
+	return []ratingField{
+		{"depth", func(r *rating.Row, v float64) { r.Depth = v }},
+		{"area", func(r *rating.Row, v float64) { r.Area = v }},
+		{"wetted_perimeter", func(r *rating.Row, v float64) { r.WettedPerimeter = v }},
+		{"top_width", func(r *rating.Row, v float64) { r.TopWidth = v }},
+		{"hydraulic_radius", func(r *rating.Row, v float64) { r.HydraulicRadius = v }},
+		{"conveyance", func(r *rating.Row, v float64) { r.Conveyance = v }},
+		{"mean_velocity", func(r *rating.Row, v float64) { r.MeanVelocity = v }},
+		{"alpha", func(r *rating.Row, v float64) { r.Alpha = v }},
+		{"froude", func(r *rating.Row, v float64) { r.Froude = v }},
+		{"hydraulic_depth", func(r *rating.Row, v float64) { r.HydraulicDepth = v }},
+		{"beta", func(r *rating.Row, v float64) { r.Beta = v }},
+		{"shear_stress", func(r *rating.Row, v float64) { r.ShearStress = v }},
 	}
+}
+
+// ratingRowColumns are the names of the optional columns ratingRow reads.
+func ratingRowColumns() []string {
+	fs := ratingFields()
+	names := make([]string, len(fs))
+	for i, f := range fs {
+		names[i] = f.name
+	}
+	return names
+}
+
+// ratingRow reads one row of a rating table: stage and discharge, each
+// NaN when blank or bad (the error kept in c), and the hydraulics of the
+// columns given (ratingFields; NaN when absent).
+func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
+	r := rating.Row{Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge)}
+	for _, f := range ratingFields() {
+		f.set(&r, c.optional(rec, f.name))
+	}
+	return r
 }
 
 // finishRatingTable completes a rating table read without error: its
