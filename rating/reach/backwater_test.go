@@ -337,6 +337,45 @@ func TestBackwaterCriticalFallback(t *testing.T) {
 	}
 }
 
+// A rating read at critical depth (the section above a drop, as in
+// TestBackwaterCriticalFallback) is flagged critical_stage, never
+// supercritical, whatever the rounding of its Froude number (1 at critical
+// depth, Chow 1959, section 4-2), and each row of the rating table carries
+// the discharge asked for, exactly.
+func TestBackwaterTableCriticalRows(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
+	drop, err := subdivide.ParseShape("trapezoid:bottom=10,side=2,invert=95")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if secs[2].Geometry, err = drop.Build(subdivide.Uniform(0.03)); err != nil {
+		t.Fatal(err)
+	}
+	qs := []float64{5, 7, 10, 20, 30, 50, 70, 100}
+	res, err := ComputeBackwater(secs, qs, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{At: secs[1].ID})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := res.Rating.Table()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range tab.Rows {
+		flags := strings.Join(r.Flags, " ")
+		if !res.Rating.Rows[i].Critical || !strings.Contains(flags, FlagCriticalStage) || strings.Contains(flags, rating.FlagSupercritical) {
+			t.Errorf("Q %g: critical %v, Froude %.17g, flags %q", qs[i], res.Rating.Rows[i].Critical, r.Froude, flags)
+		}
+		if r.Discharge != qs[i] {
+			t.Errorf("row %d: discharge %.17g, asked %g", i, r.Discharge, qs[i])
+		}
+		for _, sr := range r.Subs { // one subsection: it carries the whole discharge
+			if sr.Area > 0 && sr.Discharge != qs[i] {
+				t.Errorf("row %d: subsection discharge %.17g, asked %g", i, sr.Discharge, qs[i])
+			}
+		}
+	}
+}
+
 // Profiles from the two starts converge upstream (Davidian 1984,
 // convergence of backwater curves): at the upstream end of a long reach
 // they agree, at the first section upstream of the boundary they do not,
@@ -508,7 +547,8 @@ func TestBackwaterRefuses(t *testing.T) {
 
 // The rating table at the rating section carries the full hydraulics at
 // each computed stage with the friction slope (Q/K)² there, so each row's
-// Manning discharge K·√Sf is the profile's discharge (Chow 1959, eq. 6-9).
+// Manning discharge K·√Sf is the profile's discharge (Chow 1959, eq. 6-9);
+// the row carries that discharge exactly, not K·√Sf with its rounding.
 func TestBackwaterTable(t *testing.T) {
 	secs := naturalReach(t, 6, 60, 200, 0.001)
 	qs := ladder(5, 300, 7)
@@ -525,7 +565,7 @@ func TestBackwaterTable(t *testing.T) {
 	}
 	for i, r := range tab.Rows {
 		rd := res.Rating.Rows[i]
-		if math.Abs(r.Discharge-qs[i]) > energyBalanceTol*qs[i] || r.Stage != rd.Stage || rd.Stage != res.Profiles[i].Sections[3].WaterSurface {
+		if r.Discharge != qs[i] || r.Stage != rd.Stage || rd.Stage != res.Profiles[i].Sections[3].WaterSurface {
 			t.Errorf("row %d: Q %g stage %g, read Q %g stage %g", i, r.Discharge, r.Stage, rd.Discharge, rd.Stage)
 		}
 		hasFlag := strings.Contains(strings.Join(r.Flags, ","), FlagUnsettled)
@@ -969,3 +1009,4 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 		})
 	}
 }
+
