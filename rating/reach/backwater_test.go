@@ -942,7 +942,7 @@ func TestBackwaterOverbankLengthWarning(t *testing.T) {
 			}
 			var got []string
 			for _, w := range res.Warnings {
-				if strings.Contains(w, "overbank flow length") {
+				if strings.Contains(w, "to the next section is") {
 					got = append(got, w)
 				}
 			}
@@ -1010,3 +1010,102 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 	}
 }
 
+// A section without bank marks is all channel, so the overbank flow lengths
+// of a subreach it ends cannot be weighted at it: the result warns, naming
+// the section and the subreach, and the length used is half the weighted
+// length at the other end plus half the channel length (WeightedLength with
+// the section's conveyance all in the channel: Davidian 1984, weighted
+// length; from memory). A reach whose sections all have banks, or whose
+// overbank lengths equal the channel's, or that gives no flow lengths, is
+// not warned.
+func TestBackwaterNoBanksFlowLengths(t *testing.T) {
+	lengths := subdivide.PerRegion{Left: 180, Channel: 220, Right: 260}
+	reach := func(t *testing.T, banks []bool, l subdivide.PerRegion) []Section {
+		secs := make([]Section, len(banks))
+		for i, b := range banks {
+			s := naturalSection(40, i, 100-0.001*220*float64(i))
+			s.HasBanks = b
+			if !b {
+				s.NByRegion = subdivide.PerRegion{}
+				s.N = make([]float64, len(s.Points)-1)
+				for k := range s.N {
+					s.N[k] = 0.035
+				}
+			}
+			p, err := subdivide.Compile(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			secs[i] = Section{ID: fmt.Sprintf("X%d", i), Geometry: p, Distance: 220 * float64(i), Left: math.NaN(), Right: math.NaN()}
+			if i < len(banks)-1 {
+				secs[i].FlowLengths = l
+			}
+		}
+		return secs
+	}
+	for _, tc := range []struct {
+		name  string
+		banks []bool
+		l     subdivide.PerRegion
+		want  string // "" for no warning of banks
+	}{
+		{"middle without banks", []bool{true, false, true}, lengths,
+			"section X1 has no bank marks, so all its conveyance is the channel's: the overbank flow lengths of the subreaches " +
+				"X0 to X1 (left 180, channel 220, right 260 m) and X1 to X2 (left 180, channel 220, right 260 m) cannot be applied at it"},
+		{"two without banks", []bool{false, false, true}, lengths,
+			"sections X0 and X1 have no bank marks, so all their conveyance is the channel's: the overbank flow lengths of the subreaches " +
+				"X0 to X1 (left 180, channel 220, right 260 m) and X1 to X2"},
+		{"all with banks", []bool{true, true, true}, lengths, ""},
+		{"lengths all equal", []bool{true, false, true}, subdivide.PerRegion{Left: 220, Channel: 220, Right: 220}, ""},
+		{"no lengths", []bool{true, false, true}, subdivide.PerRegion{}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := reach(t, tc.banks, tc.l)
+			res, err := ComputeBackwater(secs, []float64{400}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range res.Warnings {
+				if strings.Contains(w, "bank marks") {
+					got = append(got, w)
+				}
+			}
+			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
+				t.Errorf("warnings %q, want %q", got, tc.want)
+			}
+		})
+	}
+	// The length of X0 to X1 with X1 all channel: ½·(weighted at X0 + 220).
+	secs := reach(t, []bool{true, false, true}, lengths)
+	res, err := ComputeBackwater(secs, []float64{400}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x0 := res.Profiles[0].Sections[0]
+	w, err := secs[0].Geometry.At(x0.WaterSurface, subdivide.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var k subdivide.PerRegion
+	for _, sw := range rating.FoldWalls(w.Subs) {
+		if sw.Area > 0 {
+			v := rating.Conveyance(sw.Area, sw.WettedPerimeter, sw.N, rating.SI)
+			switch sw.Region {
+			case subdivide.LeftOverbank:
+				k.Left += v
+			case subdivide.RightOverbank:
+				k.Right += v
+			default:
+				k.Channel += v
+			}
+		}
+	}
+	if k.Left+k.Right <= 0 {
+		t.Fatalf("X0 at %g: no overbank flow (%v): the check needs some", x0.WaterSurface, k)
+	}
+	want := WeightedLength(lengths, k, subdivide.PerRegion{Channel: 1})
+	if saRelErr(x0.Length, want) > saClosedFormTol || math.Abs(x0.Length-220) < 0.1 {
+		t.Errorf("length X0 to X1 %.6g, want %.6g", x0.Length, want)
+	}
+}

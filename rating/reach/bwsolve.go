@@ -77,8 +77,73 @@ func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) 
 		}
 		r.walls[i] = math.NaN()
 	}
+	r.warnings = append(r.warnings, r.bankWarnings()...)
 	r.warnings = append(r.warnings, orderWarnings(secs, opt.Units)...)
 	return r, nil
+}
+
+// bankWarnings returns a warning naming the sections without overbank
+// subsections (no bank marks) at an end of a subreach whose overbank flow
+// lengths differ from its channel length: all such a section's
+// conveyance is the channel's, so its half of the weighted length
+// (WeightedLength) is the channel flow length and the overbank lengths
+// cannot be applied at it.
+func (r *bwRun) bankWarnings() []string {
+	var ids, parts []string
+	L := r.u.Length()
+	used := make([]bool, len(r.flow))
+	for j, s := range r.secs {
+		if hasOverbank(s.Geometry) {
+			continue
+		}
+		named := false
+		for _, i := range []int{j - 1, j} {
+			if i < 0 || i >= len(r.flow) || !r.weighted[i] {
+				continue
+			}
+			l := r.flow[i]
+			ch := l[subdivide.Channel]
+			if l[subdivide.LeftOverbank] == ch && l[subdivide.RightOverbank] == ch {
+				continue
+			}
+			if !named {
+				ids, named = append(ids, s.ID), true
+			}
+			if !used[i] {
+				used[i] = true
+				parts = append(parts, fmt.Sprintf("%s to %s (left %s, channel %s, right %s %s)", r.secs[i].ID, r.secs[i+1].ID,
+					lengthText(l[subdivide.LeftOverbank]), lengthText(ch), lengthText(l[subdivide.RightOverbank]), L))
+			}
+		}
+	}
+	if len(ids) == 0 {
+		return nil
+	}
+	n := len(ids)
+	return []string{fmt.Sprintf("%s %s %s no bank marks, so all %s conveyance is the channel's: the overbank flow lengths of %s %s "+
+		"cannot be applied at %s, and the channel flow length is used for %s of the weighted length; "+
+		"mark %s banks for the overbank lengths to count",
+		rating.Agree(n, "section", "sections"), joinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
+		rating.Agree(len(parts), "the subreach", "the subreaches"), joinAnd(parts), rating.Agree(n, "it", "them"),
+		rating.Agree(n, "its half", "their halves"), rating.Agree(n, "its", "their"))}
+}
+
+// joinAnd joins words as "a", "a and b", "a, b and c".
+func joinAnd(w []string) string {
+	if len(w) < 2 {
+		return strings.Join(w, "")
+	}
+	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
+}
+
+// hasOverbank reports whether g has a subsection in an overbank region.
+func hasOverbank(g subdivide.Geometry) bool {
+	for _, sub := range g.Subsections() {
+		if sub.Region != subdivide.Channel {
+			return true
+		}
+	}
+	return false
 }
 
 // orderWarnings returns a warning when the reach, listed upstream first,
