@@ -826,7 +826,7 @@ func TestBackwaterHalfwaySupercritical(t *testing.T) {
 	if len(p.Warnings) != 1 || !strings.Contains(p.Warnings[0], "third profile starts at the first start") {
 		t.Errorf("profile warnings %q: want one on the third start", p.Warnings)
 	}
-	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at 1 of 1 discharges no stage tried between the two starts is subcritical") {
+	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at the one discharge no stage tried between the two starts is subcritical") {
 		t.Errorf("report warnings %q: want the third start named", res.Warnings)
 	}
 }
@@ -1107,5 +1107,40 @@ func TestBackwaterNoBanksFlowLengths(t *testing.T) {
 	want := WeightedLength(lengths, k, subdivide.PerRegion{Channel: 1})
 	if saRelErr(x0.Length, want) > saClosedFormTol || math.Abs(x0.Length-220) < 0.1 {
 		t.Errorf("length X0 to X1 %.6g, want %.6g", x0.Length, want)
+	}
+}
+
+// The warning of unsettled reads gives their discharges as runs among all
+// the discharges in ascending order, not the range from the least to the
+// greatest (which would take in the settled ones between), and one
+// discharge once.
+func TestUnsettledWarningRuns(t *testing.T) {
+	read := func(q float64, unsettled bool) RatingRead {
+		return RatingRead{Discharge: q, Spread: 0.02, Unsettled: unsettled}
+	}
+	for _, tc := range []struct {
+		name string
+		rows []RatingRead
+		want string
+	}{
+		{"one of one", []RatingRead{read(100, true)}, "at the one discharge (100 m3/s) the profiles"},
+		{"two runs", []RatingRead{read(1, true), read(2, false), read(77, false), read(78, true), read(140, true), read(200, true)},
+			"at 4 of 6 discharges (1 and 78 to 200 m3/s) the profiles"},
+		{"out of order", []RatingRead{read(200, true), read(2, false), read(1, true), read(78, true)},
+			"at 3 of 4 discharges (1 and 78 to 200 m3/s) the profiles"},
+		{"all", []RatingRead{read(5, true), read(25, true), read(45, true)}, "at 3 of 3 discharges (5 to 45 m3/s) the profiles"},
+		{"many runs", []RatingRead{read(1, true), read(2, false), read(3, true), read(4, false), read(5, true), read(6, false),
+			read(7, true), read(8, false), read(9, true), read(10, false), read(11250, true)},
+			"at 6 of 11 discharges (1, 3, 5 m3/s and 3 more runs) the profiles"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			got := unsettledWarning(BackwaterRating{Section: "X1", Tolerance: 0.01, Rows: tc.rows}, rating.SI)
+			if !strings.HasPrefix(got, tc.want) {
+				t.Errorf("warning %q, want it to start %q", got, tc.want)
+			}
+		})
+	}
+	if got := unsettledWarning(BackwaterRating{Rows: []RatingRead{read(1, false)}}, rating.SI); got != "" {
+		t.Errorf("no unsettled read: warning %q", got)
 	}
 }
