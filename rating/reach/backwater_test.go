@@ -672,6 +672,8 @@ func TestBackwaterOptions(t *testing.T) {
 		{Boundary{Kind: KnownStage, Stage: 101.5}, "stage 101.5"},
 		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 1}, {101, 9}}}, "stage-discharge rating of 2 points, 1 to 9"},
 		{Boundary{Kind: StageRating, StageOf: func(float64) (float64, error) { return 0, nil }}, "stage-discharge rating (function)"},
+		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 0}, {101, 9}}, StageOf: func(float64) (float64, error) { return 0, nil }},
+			"stage-discharge rating of 2 points, 0 to 9"}, // a table read by StageOf is still described by its points
 	} {
 		if got := tc.b.String(); got != tc.want {
 			t.Errorf("%v: %q, want %q", tc.b.Kind, got, tc.want)
