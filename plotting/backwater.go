@@ -242,12 +242,22 @@ func addProfiles(pl *plot.Plot, leg *legendLabels, profiles []ProfileLine, un un
 	}
 	if len(crit) > 0 {
 		if sc, err := plotter.NewScatter(crit); err == nil {
-			sc.GlyphStyle = draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}}
+			sc.GlyphStyle = criticalGlyph()
 			pl.Add(sc)
-			leg.add("stage at critical depth", sc)
+			leg.add(criticalLabel, sc)
 		}
 	}
 	return warnings
+}
+
+// criticalLabel names the stages at critical depth in the legends of the
+// profile and rating figures.
+const criticalLabel = "stage at critical depth"
+
+// criticalGlyph is the marker of a stage at critical depth, in the
+// profile figure and the rating figure alike.
+func criticalGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}}
 }
 
 // profileXYs returns a profile's water surface and, for the verified
@@ -351,6 +361,11 @@ type RatingComparison struct {
 	// still depend on the boundary, say).
 	Marked      []RatingPoint
 	MarkedLabel string
+	// Critical are points drawn as crosses, as the profile figure marks a
+	// stage at critical depth, named by CriticalLabel ("" gives "stage at
+	// critical depth").
+	Critical      []RatingPoint
+	CriticalLabel string
 	// What ends the title ("" gives "ratings compared").
 	What string
 	// Notes are extra lines at the foot; Caution the last ("" gives
@@ -362,7 +377,8 @@ type RatingComparison struct {
 }
 
 // CompareRatings draws ratings at one section together as a PNG into w,
-// with a shaded stage band about the first and marked points. The axes
+// with a shaded stage band about the first, marked points (rings) and
+// points at critical depth (crosses). The axes
 // reach a little beyond the data on every side (discharge from zero), so
 // that a point at an end, a rating of one discharge included, is drawn
 // whole with its marker.
@@ -379,9 +395,10 @@ func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
 }
 
 // markerPad is the share of an axis's range left beyond the data at each
-// end of a rating comparison, so that the markers at the ends (up to 4
-// points in radius) lie inside the frame: 3 % of a panel 300 pixels wide
-// at 72 dots per inch is 9 pixels, more than the 4 of the largest marker.
+// end of a rating comparison, so that the markers at the ends (up to 4.5
+// points in radius, the cross at critical depth) lie inside the frame: 3 %
+// of a panel 300 pixels wide at 72 dots per inch is 9 pixels, more than
+// the 4.5 of the largest marker.
 const markerPad = 0.03
 
 // comparePanel lays out the panel and the frame of a rating comparison.
@@ -425,6 +442,19 @@ func comparePanel(r RatingComparison) (*plot.Plot, figure, Result, error) {
 			sc.GlyphStyle = draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4), Shape: draw.RingGlyph{}}
 			p.Add(sc)
 			p.Legend.Add(orDefault(r.MarkedLabel, "marked reads"), sc)
+		}
+	}
+	var crit plotter.XYs
+	for _, m := range r.Critical {
+		if finite(m.Stage, m.Discharge) {
+			crit = append(crit, plotter.XY{X: m.Discharge, Y: m.Stage})
+		}
+	}
+	if len(crit) > 0 {
+		if sc, err := plotter.NewScatter(crit); err == nil {
+			sc.GlyphStyle = criticalGlyph()
+			p.Add(sc)
+			p.Legend.Add(orDefault(r.CriticalLabel, criticalLabel), sc)
 		}
 	}
 	fromZero := p.X.Min >= 0

@@ -2,20 +2,26 @@ package plotting
 
 import (
 	"io"
+	"slices"
 	"testing"
 
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/recorder"
+
+	"wetline/rating"
+	"wetline/rating/reach"
 )
 
 // TestCompareRatingsMarkersInside: every rating point of a comparison,
 // one discharge alone or the ends of a ladder, is drawn whole, its marker
-// (a ring of 4 points' radius, the largest drawn) inside the data area, at
+// (a cross of 4.5 points' radius at critical depth, the largest drawn)
+// inside the data area, at
 // the default size and at a small one. The data area and the positions are
 // gonum's own (Plot.DataCanvas, Plot.Transforms) in the canvas the figure
 // is drawn in.
 func TestCompareRatingsMarkersInside(t *testing.T) {
-	const radius = 4 // points: the ring of a marked read
+	const radius = 4.5 // points: the cross of a read at critical depth
 	one := []RatingPoint{{Stage: 102.281, Discharge: 38}}
 	var ladder []RatingPoint
 	for q := 2.0; q <= 60; q += 2 {
@@ -32,7 +38,7 @@ func TestCompareRatingsMarkersInside(t *testing.T) {
 		{"ladder, small", ladder, Size{Width: 400, Height: 300, DPI: 72}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			rc := RatingComparison{Section: "XS-1", Curves: []Curve{{Label: "rating", Points: tc.pts}}, Marked: tc.pts, Size: tc.size}
+			rc := RatingComparison{Section: "XS-1", Curves: []Curve{{Label: "rating", Points: tc.pts}}, Marked: tc.pts, Critical: tc.pts, Size: tc.size}
 			p, fig, _, err := comparePanel(rc)
 			if err != nil {
 				t.Fatal(err)
@@ -54,5 +60,39 @@ func TestCompareRatingsMarkersInside(t *testing.T) {
 				t.Fatal(err)
 			}
 		})
+	}
+}
+
+// TestBackwaterRatingMarksCritical: the rating figure of a step-backwater
+// report crosses the reads at critical depth, as the profile figure marks
+// them, with a legend entry; reads not at critical depth are not crossed.
+// The legend's text is read from gonum's recording canvas.
+func TestBackwaterRatingMarksCritical(t *testing.T) {
+	rows := []reach.RatingRead{ // an invented steep reach, critical at its two ends
+		{Discharge: 5, Stage: 65.096, Critical: true},
+		{Discharge: 20, Stage: 65.661, Unsettled: true},
+		{Discharge: 100, Stage: 67.268, Critical: true},
+	}
+	rep := reach.BackwaterReport{Result: reach.Backwater{Units: rating.SI,
+		Rating: reach.BackwaterRating{Section: "X1", Tolerance: 0.01, Rows: rows}}}
+	rc := backwaterComparison(BackwaterFigures{Report: rep})
+	want := []RatingPoint{{Stage: 65.096, Discharge: 5}, {Stage: 67.268, Discharge: 100}}
+	if !slices.Equal(rc.Critical, want) {
+		t.Errorf("critical points %v, want %v", rc.Critical, want)
+	}
+	p, _, _, err := comparePanel(rc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rec recorder.Canvas
+	p.Draw(draw.NewCanvas(&rec, 6*vg.Inch, 4*vg.Inch))
+	found := false
+	for _, a := range rec.Actions {
+		if s, ok := a.(*recorder.FillString); ok && s.String == criticalLabel {
+			found = true
+		}
+	}
+	if !found {
+		t.Errorf("no legend entry %q in the rating figure", criticalLabel)
 	}
 }

@@ -352,7 +352,8 @@ type BackwaterFigures struct {
 // profile with every computed profile, the stages at critical depth, the
 // high-water marks and a verified profile (Base-profiles.png), and the
 // rating at the rating section with the band spanned by the profiles from
-// the three starting stages, reads still depending on the boundary ringed,
+// the three starting stages, reads still depending on the boundary ringed
+// and reads at critical depth crossed (as in the profile figure),
 // beside any ratings to compare (Base-rating.png).
 func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: in.Base}
@@ -434,6 +435,9 @@ func backwaterComparison(in BackwaterFigures) RatingComparison {
 		}
 		if rd.Unsettled {
 			rc.Marked = append(rc.Marked, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})
+		}
+		if rd.Critical {
+			rc.Critical = append(rc.Critical, RatingPoint{Stage: rd.Stage, Discharge: rd.Discharge})
 		}
 	}
 	rc.Curves = append([]Curve{c}, in.Compare...)

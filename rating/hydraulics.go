@@ -59,7 +59,9 @@ const (
 	// FlagNearCritical: Froude number above NearCriticalFroude; a Manning
 	// rating is doubtful where the flow is near critical.
 	FlagNearCritical = "near_critical"
-	// FlagSupercritical: Froude number above 1.
+	// FlagSupercritical: Froude number above 1 by more than CriticalBand
+	// (Regime "supercritical"), so that a row at critical depth, whose
+	// Froude number is 1 to rounding, is near critical, not supercritical.
 	FlagSupercritical = "supercritical"
 	// FlagConveyanceDrop: conveyance is lower than at a lower stage of the
 	// same table, a sign that the subdivision does not suit the section
@@ -209,7 +211,7 @@ func Hydraulics(w subdivide.Wetted, bottom, s float64, u Units) (Row, error) {
 		r.Flags = append(r.Flags, FlagPools)
 	}
 	switch {
-	case r.Froude > 1:
+	case Regime(r.Froude) == RegimeSupercritical:
 		r.Flags = append(r.Flags, FlagSupercritical)
 	case r.Froude > NearCriticalFroude:
 		r.Flags = append(r.Flags, FlagNearCritical)

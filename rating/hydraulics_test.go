@@ -251,3 +251,42 @@ func TestWallsConvey(t *testing.T) {
 		t.Errorf("rougher walls carry more: %g against %g", rough.Discharge, smooth.Discharge)
 	}
 }
+
+// TestRegimeFlags checks that a row's regime flag follows Regime: a wide
+// rectangle (n = 0.03, 50 m wide, 1 m deep, α = 1) on the slope that gives
+// it Froude number F, from Manning's equation and F = V/√(g·D) solved for
+// S = (F·n·√(g·D)/R^(2/3))² (Chow 1959, eqs. 3-7 and 5-6, closed form). A
+// Froude number of 1 to rounding, or inside CriticalBand, is near critical,
+// never supercritical.
+func TestRegimeFlags(t *testing.T) {
+	const b, y, n = 50.0, 1.0, 0.03
+	p := compile(t, subdivide.Section{Points: subdivide.XZ(0, 3, 0, 0, b, 0, b, 3), N: []float64{n, n, n}})
+	r := b * y / (b + 2*y)
+	for _, tc := range []struct {
+		froude float64
+		want   string // the regime flag, "" for none
+	}{
+		{0.5, ""},
+		{0.95, FlagNearCritical},
+		{1 - 1e-12, FlagNearCritical},
+		{1 + 1e-12, FlagNearCritical}, // critical depth, Froude 1 to rounding
+		{1 + CriticalBand/2, FlagNearCritical},
+		{1 + 2*CriticalBand, FlagSupercritical},
+		{1.5, FlagSupercritical},
+	} {
+		s := math.Pow(tc.froude*n*math.Sqrt(SI.Gravity()*y)/math.Pow(r, 2.0/3), 2)
+		row := rowAt(t, p, y, s, SI)
+		if math.Abs(row.Froude-tc.froude) > 1e-12 {
+			t.Fatalf("F %v: computed %v", tc.froude, row.Froude)
+		}
+		got := ""
+		for _, f := range row.Flags {
+			if f == FlagNearCritical || f == FlagSupercritical {
+				got += f
+			}
+		}
+		if got != tc.want {
+			t.Errorf("Froude %v (computed %.15g): flags %q, want %q (regime %q)", tc.froude, row.Froude, got, tc.want, Regime(row.Froude))
+		}
+	}
+}

@@ -644,19 +644,29 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 	return best, minima, nil
 }
 
-// Regime names the flow regime of a Froude number: "critical" within
-// CriticalBand of 1, else "subcritical" or "supercritical"; "" when the
-// Froude number is undefined (a conduit flowing full).
+// Flow regimes named by Regime.
+const (
+	RegimeSubcritical   = "subcritical"
+	RegimeCritical      = "critical"
+	RegimeSupercritical = "supercritical"
+)
+
+// Regime names the flow regime of a Froude number: RegimeCritical within
+// CriticalBand of 1, else RegimeSubcritical or RegimeSupercritical; ""
+// when the Froude number is undefined (a conduit flowing full). It is the
+// one rule of the regime: solve's regime and the rows' FlagSupercritical
+// both follow it, so that a stage at critical depth, whose Froude number
+// is 1 only to rounding, is never called supercritical.
 func Regime(froude float64) string {
 	switch {
 	case math.IsNaN(froude):
 		return ""
 	case math.Abs(froude-1) <= CriticalBand:
-		return "critical"
+		return RegimeCritical
 	case froude < 1:
-		return "subcritical"
+		return RegimeSubcritical
 	}
-	return "supercritical"
+	return RegimeSupercritical
 }
 
 // PeakDischarge returns the stage and value of the largest discharge at

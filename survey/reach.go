@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/rating/reach"
 	"wetline/subdivide"
 )
@@ -833,6 +834,44 @@ type BoundaryRating struct {
 	// Units is what the stage and discharge headers say of the unit
 	// system (see Reach.AgreeBoundary).
 	Units UnitNote
+}
+
+// Boundary returns the downstream boundary of a step-backwater
+// computation that reads this rating as the project reads every rating
+// table (gauged.TableRating): log-linearly in (h − e) between rows, where
+// the table begins at a row without flow whose stage is e, the gauge
+// height of zero flow (as the table rate writes begins, at the section's
+// lowest point; DryFoot), and linearly where it has no such row. A
+// discharge outside the table's rows is an error wrapping
+// reach.ErrBoundaryRange; the table is never extrapolated. Points stay in
+// the boundary, for its description and reports.
+//
+// References:
+//
+//	Kennedy, E.J., 1984, Discharge ratings at gaging stations: USGS
+//	Techniques of Water-Resources Investigations, book 3, chap. A10.
+func (b BoundaryRating) Boundary() (reach.Boundary, error) {
+	pts := make([]gauged.RatingPoint, len(b.Points))
+	for i, p := range b.Points {
+		pts[i] = gauged.RatingPoint{Stage: p.Stage, Discharge: p.Discharge}
+	}
+	rt := gauged.RatingTable{Name: Position(b.File, b.Sheet), Points: pts}
+	rt.ZeroFlow, rt.HasZeroFlow = DryFoot(pts)
+	tr, err := rt.Compile()
+	if err != nil {
+		return reach.Boundary{}, &ParseError{File: b.File, Sheet: b.Sheet, Err: err}
+	}
+	lo, hi := pts[0].Discharge, pts[len(pts)-1].Discharge
+	stage := func(q float64) (float64, error) {
+		if q < lo || q > hi {
+			return math.NaN(), fmt.Errorf("%w: %g is not within %g to %g", reach.ErrBoundaryRange, q, lo, hi)
+		}
+		if q == 0 {
+			return pts[0].Stage, nil
+		}
+		return tr.Stage(q)
+	}
+	return reach.Boundary{Kind: reach.StageRating, Rating: slices.Clone(b.Points), StageOf: stage}, nil
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or

@@ -476,6 +476,50 @@ func TestReadBoundaryRating(t *testing.T) {
 	}
 }
 
+// A boundary rating is read as every rating table is: where it begins dry
+// at stage e, log-linearly in (h − e) between rows, so that between rows
+// (hᵢ, Qᵢ) and (hᵢ₊₁, Qᵢ₊₁) the stage of q is
+// e + (hᵢ − e)·(q/Qᵢ)^(1/b), b = ln(Qᵢ₊₁/Qᵢ)/ln((hᵢ₊₁ − e)/(hᵢ − e))
+// (Kennedy 1984, USGS TWRI 3-A10; the inverse in closed form); with no dry
+// row, linearly. A discharge beyond the rows is reach.ErrBoundaryRange.
+func TestBoundaryRatingStages(t *testing.T) {
+	const tol = 1e-9 // m: both laws are inverted in closed form
+	logStage := func(e, h0, q0, h1, q1, q float64) float64 {
+		b := math.Log(q1/q0) / math.Log((h1-e)/(h0-e))
+		return e + (h0-e)*math.Pow(q/q0, 1/b)
+	}
+	for _, tc := range []struct {
+		name, text string
+		q, want    float64
+	}{
+		{"dry foot, log-linear", "stage,discharge\n100,0\n101,10\n103,80\n", 40, logStage(100, 101, 10, 103, 80, 40)},
+		{"dry foot, a row", "stage,discharge\n100,0\n101,10\n103,80\n", 80, 103},
+		{"no dry row, linear", "stage,discharge\n101,10\n103,80\n", 40, 101 + 2*30.0/70},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := reachFiles(t, map[string]string{"r.csv": tc.text})
+			br, err := ReadBoundaryRating(filepath.Join(dir, "r.csv"), "")
+			if err != nil {
+				t.Fatal(err)
+			}
+			b, err := br.Boundary()
+			if err != nil {
+				t.Fatal(err)
+			}
+			if b.Kind != reach.StageRating || len(b.Rating) != len(br.Points) || b.StageOf == nil {
+				t.Fatalf("boundary %+v", b)
+			}
+			h, err := b.StageOf(tc.q)
+			if err != nil || math.Abs(h-tc.want) > tol {
+				t.Errorf("stage of %g: %.9f (%v), want %.9f", tc.q, h, err, tc.want)
+			}
+			if _, err := b.StageOf(81); !errors.Is(err, reach.ErrBoundaryRange) {
+				t.Errorf("beyond the table: %v", err)
+			}
+		})
+	}
+}
+
 func TestBoundaryRatingErrors(t *testing.T) {
 	for _, tc := range []struct {
 		name, text string

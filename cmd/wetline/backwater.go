@@ -309,7 +309,9 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		if err := rt.AgreeBoundary(br, opt.Backwater.Units, unitsGiven); err != nil {
 			return rep, err
 		}
-		b.Rating = br.Points
+		if b, err = br.Boundary(); err != nil {
+			return rep, err
+		}
 		inputs = append(inputs, bfile)
 		warnings = br.Warnings
 	}

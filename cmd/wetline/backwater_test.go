@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"image/png"
+	"math"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -441,6 +442,49 @@ func TestBackwaterBoundaryUnits(t *testing.T) {
 				if !strings.Contains(errs, w) {
 					t.Errorf("error lacks %q:\n%s", w, errs)
 				}
+			}
+		})
+	}
+}
+
+// A boundary rating that begins dry, as rate's table does, is read
+// log-linearly in (h − e), e the stage of its dry row, as every rating
+// table is (Kennedy 1984, USGS TWRI 3-A10): 25 m3/s between (101.5, 15) and
+// (102, 40) above e = 100.05 starts at
+// e + 1.45·(25/15)^(1/b), b = ln(40/15)/ln(1.95/1.45), 101.741916 m (by
+// hand), not at 101.7 m, the straight line between the rows. Without the
+// dry row the table is read linearly.
+func TestBackwaterBoundaryLogLinear(t *testing.T) {
+	t.Parallel()
+	path := bwPlain(t)
+	const tol = 1e-6 // m
+	b := math.Log(40.0/15) / math.Log(1.95/1.45)
+	for _, c := range []struct {
+		name, rows string
+		want       float64
+	}{
+		{"dry foot", "100.05,0\n100.5,1\n101,6\n101.5,15\n102,40\n103,100\n", 100.05 + 1.45*math.Pow(25.0/15, 1/b)},
+		{"no dry row", "100.5,1\n101,6\n101.5,15\n102,40\n103,100\n", 101.7},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			table := filepath.Join(filepath.Dir(path), strings.ReplaceAll(c.name, " ", "-")+".csv")
+			if err := os.WriteFile(table, []byte("stage,discharge\n"+c.rows), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			out, errs, code := runCLI(t, "backwater", path, "--discharges", "25", "--boundary", "rating:"+table, "--format", "json")
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			var rep struct {
+				Profiles []struct {
+					Start float64 `json:"start"`
+				} `json:"profiles"`
+			}
+			if err := json.Unmarshal([]byte(out), &rep); err != nil || len(rep.Profiles) != 1 {
+				t.Fatalf("%v: %.300s", err, out)
+			}
+			if got := rep.Profiles[0].Start; math.Abs(got-c.want) > tol {
+				t.Errorf("start %.6f, want %.6f", got, c.want)
 			}
 		})
 	}

@@ -248,7 +248,12 @@ type RatingRead struct {
 // k = opt.Expansion where the velocity head falls downstream and
 // opt.Contraction where it rises, and α from the subsections. L is the
 // distance between the sections or, where Section.FlowLengths are given,
-// the conveyance-weighted length (WeightedLength). The stage is the
+// the flow lengths weighted by the mean of the two sections' conveyance
+// fractions (WeightedLength); a section without overbank subsections (no
+// bank marks) puts all its conveyance in the channel, and is warned of
+// where the subreach's overbank lengths differ from its channel length.
+// A boundary StageRating is read linearly between its points unless
+// Boundary.StageOf reads it otherwise. The stage is the
 // subcritical root: the root above a critical stage of the section, found
 // by Brent's method in the highest band of stages in which the flow is
 // subcritical and the equation has one (a compound section can have
@@ -378,17 +383,26 @@ func ratingIndex(secs []Section, id string) (int, error) {
 }
 
 // WeightedLength returns the length of a subreach whose left-overbank,
-// channel and right-overbank flow paths have lengths l, weighted by the conveyance of each part at both
-// ends and averaged over the two sections:
+// channel and right-overbank flow paths have lengths l, each weighted by
+// the mean of its part's conveyance fractions at the two ends:
 //
 //	L = ½·( Σi li·Kui / Ku  +  Σi li·Kdi / Kd )
 //
 // with Kui and Kdi the conveyance of part i at the upstream and
-// downstream section and Ku, Kd their sums. A section without conveyance
-// is left out of the average; NaN when neither has any.
+// downstream section and Ku, Kd their sums. At one section each part
+// carries the share Ki/K of the discharge, so this is the length weighted
+// by the mean discharge of each path, Σi li·(Qui + Qdi)/(2Q). A section
+// without conveyance is left out of the average; NaN when neither has
+// any. A section without overbank parts (no bank marks) has all its
+// conveyance in the channel: its half of L is the channel length.
 //
-// Reference: Davidian, J., 1984, USGS TWRI 3-A15 (the weighted length of
-// a subreach; from memory).
+// References:
+//
+//	Davidian, J., 1984, Computation of water-surface profiles in open
+//	channels: USGS TWRI, book 3, chap. A15 (the length of a subreach
+//	weighted by the discharge of each flow path; from memory).
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, chapter 10
+//	(the standard step method).
 func WeightedLength(l, ku, kd subdivide.PerRegion) float64 {
 	return weightedLength(l.Array(), ku.Array(), kd.Array())
 }

@@ -337,6 +337,45 @@ func TestBackwaterCriticalFallback(t *testing.T) {
 	}
 }
 
+// A rating read at critical depth (the section above a drop, as in
+// TestBackwaterCriticalFallback) is flagged critical_stage, never
+// supercritical, whatever the rounding of its Froude number (1 at critical
+// depth, Chow 1959, section 4-2), and each row of the rating table carries
+// the discharge asked for, exactly.
+func TestBackwaterTableCriticalRows(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
+	drop, err := subdivide.ParseShape("trapezoid:bottom=10,side=2,invert=95")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if secs[2].Geometry, err = drop.Build(subdivide.Uniform(0.03)); err != nil {
+		t.Fatal(err)
+	}
+	qs := []float64{5, 7, 10, 20, 30, 50, 70, 100}
+	res, err := ComputeBackwater(secs, qs, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{At: secs[1].ID})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := res.Rating.Table()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, r := range tab.Rows {
+		flags := strings.Join(r.Flags, " ")
+		if !res.Rating.Rows[i].Critical || !strings.Contains(flags, FlagCriticalStage) || strings.Contains(flags, rating.FlagSupercritical) {
+			t.Errorf("Q %g: critical %v, Froude %.17g, flags %q", qs[i], res.Rating.Rows[i].Critical, r.Froude, flags)
+		}
+		if r.Discharge != qs[i] {
+			t.Errorf("row %d: discharge %.17g, asked %g", i, r.Discharge, qs[i])
+		}
+		for _, sr := range r.Subs { // one subsection: it carries the whole discharge
+			if sr.Area > 0 && sr.Discharge != qs[i] {
+				t.Errorf("row %d: subsection discharge %.17g, asked %g", i, sr.Discharge, qs[i])
+			}
+		}
+	}
+}
+
 // Profiles from the two starts converge upstream (Davidian 1984,
 // convergence of backwater curves): at the upstream end of a long reach
 // they agree, at the first section upstream of the boundary they do not,
@@ -508,7 +547,8 @@ func TestBackwaterRefuses(t *testing.T) {
 
 // The rating table at the rating section carries the full hydraulics at
 // each computed stage with the friction slope (Q/K)² there, so each row's
-// Manning discharge K·√Sf is the profile's discharge (Chow 1959, eq. 6-9).
+// Manning discharge K·√Sf is the profile's discharge (Chow 1959, eq. 6-9);
+// the row carries that discharge exactly, not K·√Sf with its rounding.
 func TestBackwaterTable(t *testing.T) {
 	secs := naturalReach(t, 6, 60, 200, 0.001)
 	qs := ladder(5, 300, 7)
@@ -525,7 +565,7 @@ func TestBackwaterTable(t *testing.T) {
 	}
 	for i, r := range tab.Rows {
 		rd := res.Rating.Rows[i]
-		if math.Abs(r.Discharge-qs[i]) > energyBalanceTol*qs[i] || r.Stage != rd.Stage || rd.Stage != res.Profiles[i].Sections[3].WaterSurface {
+		if r.Discharge != qs[i] || r.Stage != rd.Stage || rd.Stage != res.Profiles[i].Sections[3].WaterSurface {
 			t.Errorf("row %d: Q %g stage %g, read Q %g stage %g", i, r.Discharge, r.Stage, rd.Discharge, rd.Stage)
 		}
 		hasFlag := strings.Contains(strings.Join(r.Flags, ","), FlagUnsettled)
@@ -632,6 +672,8 @@ func TestBackwaterOptions(t *testing.T) {
 		{Boundary{Kind: KnownStage, Stage: 101.5}, "stage 101.5"},
 		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 1}, {101, 9}}}, "stage-discharge rating of 2 points, 1 to 9"},
 		{Boundary{Kind: StageRating, StageOf: func(float64) (float64, error) { return 0, nil }}, "stage-discharge rating (function)"},
+		{Boundary{Kind: StageRating, Rating: []StageDischarge{{100, 0}, {101, 9}}, StageOf: func(float64) (float64, error) { return 0, nil }},
+			"stage-discharge rating of 2 points, 0 to 9"}, // a table read by StageOf is still described by its points
 	} {
 		if got := tc.b.String(); got != tc.want {
 			t.Errorf("%v: %q, want %q", tc.b.Kind, got, tc.want)
@@ -786,7 +828,7 @@ func TestBackwaterHalfwaySupercritical(t *testing.T) {
 	if len(p.Warnings) != 1 || !strings.Contains(p.Warnings[0], "third profile starts at the first start") {
 		t.Errorf("profile warnings %q: want one on the third start", p.Warnings)
 	}
-	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at 1 of 1 discharges no stage tried between the two starts is subcritical") {
+	if all := strings.Join(res.Warnings, "\n"); !strings.Contains(all, "at the one discharge no stage tried between the two starts is subcritical") {
 		t.Errorf("report warnings %q: want the third start named", res.Warnings)
 	}
 }
@@ -902,7 +944,7 @@ func TestBackwaterOverbankLengthWarning(t *testing.T) {
 			}
 			var got []string
 			for _, w := range res.Warnings {
-				if strings.Contains(w, "overbank flow length") {
+				if strings.Contains(w, "to the next section is") {
 					got = append(got, w)
 				}
 			}
@@ -967,5 +1009,140 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A section without bank marks is all channel, so the overbank flow lengths
+// of a subreach it ends cannot be weighted at it: the result warns, naming
+// the section and the subreach, and the length used is half the weighted
+// length at the other end plus half the channel length (WeightedLength with
+// the section's conveyance all in the channel: Davidian 1984, weighted
+// length; from memory). A reach whose sections all have banks, or whose
+// overbank lengths equal the channel's, or that gives no flow lengths, is
+// not warned.
+func TestBackwaterNoBanksFlowLengths(t *testing.T) {
+	lengths := subdivide.PerRegion{Left: 180, Channel: 220, Right: 260}
+	reach := func(t *testing.T, banks []bool, l subdivide.PerRegion) []Section {
+		secs := make([]Section, len(banks))
+		for i, b := range banks {
+			s := naturalSection(40, i, 100-0.001*220*float64(i))
+			s.HasBanks = b
+			if !b {
+				s.NByRegion = subdivide.PerRegion{}
+				s.N = make([]float64, len(s.Points)-1)
+				for k := range s.N {
+					s.N[k] = 0.035
+				}
+			}
+			p, err := subdivide.Compile(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			secs[i] = Section{ID: fmt.Sprintf("X%d", i), Geometry: p, Distance: 220 * float64(i), Left: math.NaN(), Right: math.NaN()}
+			if i < len(banks)-1 {
+				secs[i].FlowLengths = l
+			}
+		}
+		return secs
+	}
+	for _, tc := range []struct {
+		name  string
+		banks []bool
+		l     subdivide.PerRegion
+		want  string // "" for no warning of banks
+	}{
+		{"middle without banks", []bool{true, false, true}, lengths,
+			"section X1 has no bank marks, so all its conveyance is the channel's: the overbank flow lengths of the subreaches " +
+				"X0 to X1 (left 180, channel 220, right 260 m) and X1 to X2 (left 180, channel 220, right 260 m) cannot be applied at it"},
+		{"two without banks", []bool{false, false, true}, lengths,
+			"sections X0 and X1 have no bank marks, so all their conveyance is the channel's: the overbank flow lengths of the subreaches " +
+				"X0 to X1 (left 180, channel 220, right 260 m) and X1 to X2"},
+		{"all with banks", []bool{true, true, true}, lengths, ""},
+		{"lengths all equal", []bool{true, false, true}, subdivide.PerRegion{Left: 220, Channel: 220, Right: 220}, ""},
+		{"no lengths", []bool{true, false, true}, subdivide.PerRegion{}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			secs := reach(t, tc.banks, tc.l)
+			res, err := ComputeBackwater(secs, []float64{400}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range res.Warnings {
+				if strings.Contains(w, "bank marks") {
+					got = append(got, w)
+				}
+			}
+			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
+				t.Errorf("warnings %q, want %q", got, tc.want)
+			}
+		})
+	}
+	// The length of X0 to X1 with X1 all channel: ½·(weighted at X0 + 220).
+	secs := reach(t, []bool{true, false, true}, lengths)
+	res, err := ComputeBackwater(secs, []float64{400}, Boundary{Kind: NormalDepth, Slope: 0.001}, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	x0 := res.Profiles[0].Sections[0]
+	w, err := secs[0].Geometry.At(x0.WaterSurface, subdivide.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var k subdivide.PerRegion
+	for _, sw := range rating.FoldWalls(w.Subs) {
+		if sw.Area > 0 {
+			v := rating.Conveyance(sw.Area, sw.WettedPerimeter, sw.N, rating.SI)
+			switch sw.Region {
+			case subdivide.LeftOverbank:
+				k.Left += v
+			case subdivide.RightOverbank:
+				k.Right += v
+			default:
+				k.Channel += v
+			}
+		}
+	}
+	if k.Left+k.Right <= 0 {
+		t.Fatalf("X0 at %g: no overbank flow (%v): the check needs some", x0.WaterSurface, k)
+	}
+	want := WeightedLength(lengths, k, subdivide.PerRegion{Channel: 1})
+	if saRelErr(x0.Length, want) > saClosedFormTol || math.Abs(x0.Length-220) < 0.1 {
+		t.Errorf("length X0 to X1 %.6g, want %.6g", x0.Length, want)
+	}
+}
+
+// The warning of unsettled reads gives their discharges as runs among all
+// the discharges in ascending order, not the range from the least to the
+// greatest (which would take in the settled ones between), and one
+// discharge once.
+func TestUnsettledWarningRuns(t *testing.T) {
+	read := func(q float64, unsettled bool) RatingRead {
+		return RatingRead{Discharge: q, Spread: 0.02, Unsettled: unsettled}
+	}
+	for _, tc := range []struct {
+		name string
+		rows []RatingRead
+		want string
+	}{
+		{"one of one", []RatingRead{read(100, true)}, "at the one discharge (100 m3/s) the profiles"},
+		{"two runs", []RatingRead{read(1, true), read(2, false), read(77, false), read(78, true), read(140, true), read(200, true)},
+			"at 4 of 6 discharges (1 and 78 to 200 m3/s) the profiles"},
+		{"out of order", []RatingRead{read(200, true), read(2, false), read(1, true), read(78, true)},
+			"at 3 of 4 discharges (1 and 78 to 200 m3/s) the profiles"},
+		{"all", []RatingRead{read(5, true), read(25, true), read(45, true)}, "at 3 of 3 discharges (5 to 45 m3/s) the profiles"},
+		{"many runs", []RatingRead{read(1, true), read(2, false), read(3, true), read(4, false), read(5, true), read(6, false),
+			read(7, true), read(8, false), read(9, true), read(10, false), read(11250, true)},
+			"at 6 of 11 discharges (1, 3, 5 m3/s and 3 more runs) the profiles"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			got := unsettledWarning(BackwaterRating{Section: "X1", Tolerance: 0.01, Rows: tc.rows}, rating.SI)
+			if !strings.HasPrefix(got, tc.want) {
+				t.Errorf("warning %q, want it to start %q", got, tc.want)
+			}
+		})
+	}
+	if got := unsettledWarning(BackwaterRating{Rows: []RatingRead{read(1, false)}}, rating.SI); got != "" {
+		t.Errorf("no unsettled read: warning %q", got)
 	}
 }

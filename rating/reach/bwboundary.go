@@ -58,12 +58,15 @@ type Boundary struct {
 	// Stage is the water-surface elevation of KnownStage (length unit).
 	Stage float64
 	// Rating holds the points of a StageRating, both stage and discharge
-	// strictly increasing (two or more); the stage of a discharge between
-	// two points is interpolated linearly, and a discharge outside the
-	// points is an error (ErrBoundaryRange), never extrapolated.
+	// strictly increasing (two or more); without StageOf the stage of a
+	// discharge between two points is interpolated linearly, and a
+	// discharge outside the points is an error (ErrBoundaryRange), never
+	// extrapolated.
 	Rating []StageDischarge
 	// StageOf, when set, gives the stage of a StageRating at discharge q
-	// instead of Rating.
+	// instead of Rating, which then only describes the rating (String,
+	// Words, reports): a table read log-linearly in (h − e), say. An error
+	// wrapping ErrBoundaryRange is returned as it is.
 	StageOf func(q float64) (float64, error)
 }
 
@@ -82,11 +85,11 @@ func (b Boundary) String() string {
 	case KnownStage:
 		return fmt.Sprintf("stage %g", b.Stage)
 	case StageRating:
-		if b.StageOf != nil {
-			return "stage-discharge rating (function)"
-		}
 		if n := len(b.Rating); n > 0 {
 			return fmt.Sprintf("stage-discharge rating of %d points, %g to %g", n, b.Rating[0].Discharge, b.Rating[n-1].Discharge)
+		}
+		if b.StageOf != nil {
+			return "stage-discharge rating (function)"
 		}
 		return "stage-discharge rating"
 	}
@@ -101,7 +104,7 @@ func (b Boundary) Words(u rating.Units) string {
 	case KnownStage:
 		return fmt.Sprintf("stage %.3f %s", b.Stage, u.Length())
 	case StageRating:
-		if n := len(b.Rating); n > 0 && b.StageOf == nil {
+		if n := len(b.Rating); n > 0 {
 			return fmt.Sprintf("stage–discharge rating of %d points, %.4g to %.4g %s", n, b.Rating[0].Discharge, b.Rating[n-1].Discharge, u.Discharge())
 		}
 	}
@@ -145,7 +148,10 @@ func (b Boundary) validate() error {
 func (b Boundary) ratingStage(q float64) (float64, error) {
 	if b.StageOf != nil {
 		h, err := b.StageOf(q)
-		if err != nil {
+		switch {
+		case errors.Is(err, ErrBoundaryRange):
+			return math.NaN(), err
+		case err != nil:
 			return math.NaN(), fmt.Errorf("%w: discharge %g: %w", ErrBoundary, q, err)
 		}
 		if !finite(h) {

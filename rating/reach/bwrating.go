@@ -3,6 +3,7 @@ package reach
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"wetline/rating"
@@ -14,9 +15,13 @@ import (
 // Sf = (Q/K)², so that each row's Discharge is the read's discharge and
 // its ShearStress γ·R·Sf. Rows keep the order of the reads. The table's
 // Slope is NaN: there is no single slope, each row has its own. Rows of
-// critical reads carry FlagCriticalStage, unsettled ones FlagUnsettled;
-// the table's warnings say so, and where stages are above an end of the
-// section or water stands in several pools.
+// critical reads carry FlagCriticalStage and never
+// rating.FlagSupercritical (the stage is critical depth: near critical,
+// whatever the rounding of its Froude number), unsettled ones
+// FlagUnsettled; the table's warnings say so, and where stages are above
+// an end of the section or water stands in several pools. Each row's
+// Discharge is the read's, exactly, and each subsection's its share by
+// conveyance.
 //
 // Errors are those of the geometry at a read's stage.
 func (r BackwaterRating) Table() (rating.Table, error) {
@@ -46,7 +51,25 @@ func (r BackwaterRating) Table() (rating.Table, error) {
 		if err != nil {
 			return t, fmt.Errorf("discharge %g, stage %g: %w", rd.Discharge, rd.Stage, err)
 		}
+		// K·√((Q/K)²) is Q only to rounding: the row carries the discharge
+		// the profile was computed for, shared among the subsections by
+		// their conveyance (all of it in a subsection conveying alone).
+		row.Discharge = rd.Discharge
+		if row.Area > 0 {
+			row.MeanVelocity = rd.Discharge / row.Area
+		}
+		for i := range row.Subs {
+			if sr := &row.Subs[i]; sr.Area > 0 && row.Conveyance > 0 {
+				sr.Discharge = rd.Discharge * (sr.Conveyance / row.Conveyance)
+				sr.Velocity = sr.Discharge / sr.Area
+			}
+		}
 		if rd.Critical {
+			// The stage is critical depth: near critical, whatever the
+			// rounding of its Froude number (or its side of a jump).
+			if i := slices.Index(row.Flags, rating.FlagSupercritical); i >= 0 {
+				row.Flags[i] = rating.FlagNearCritical
+			}
 			row.Flags = append(row.Flags, FlagCriticalStage)
 			crit++
 		}

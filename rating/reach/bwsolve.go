@@ -1,9 +1,11 @@
 package reach
 
 import (
+	"cmp"
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -77,8 +79,73 @@ func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) 
 		}
 		r.walls[i] = math.NaN()
 	}
+	r.warnings = append(r.warnings, r.bankWarnings()...)
 	r.warnings = append(r.warnings, orderWarnings(secs, opt.Units)...)
 	return r, nil
+}
+
+// bankWarnings returns a warning naming the sections without overbank
+// subsections (no bank marks) at an end of a subreach whose overbank flow
+// lengths differ from its channel length: all such a section's
+// conveyance is the channel's, so its half of the weighted length
+// (WeightedLength) is the channel flow length and the overbank lengths
+// cannot be applied at it.
+func (r *bwRun) bankWarnings() []string {
+	var ids, parts []string
+	L := r.u.Length()
+	used := make([]bool, len(r.flow))
+	for j, s := range r.secs {
+		if hasOverbank(s.Geometry) {
+			continue
+		}
+		named := false
+		for _, i := range []int{j - 1, j} {
+			if i < 0 || i >= len(r.flow) || !r.weighted[i] {
+				continue
+			}
+			l := r.flow[i]
+			ch := l[subdivide.Channel]
+			if l[subdivide.LeftOverbank] == ch && l[subdivide.RightOverbank] == ch {
+				continue
+			}
+			if !named {
+				ids, named = append(ids, s.ID), true
+			}
+			if !used[i] {
+				used[i] = true
+				parts = append(parts, fmt.Sprintf("%s to %s (left %s, channel %s, right %s %s)", r.secs[i].ID, r.secs[i+1].ID,
+					lengthText(l[subdivide.LeftOverbank]), lengthText(ch), lengthText(l[subdivide.RightOverbank]), L))
+			}
+		}
+	}
+	if len(ids) == 0 {
+		return nil
+	}
+	n := len(ids)
+	return []string{fmt.Sprintf("%s %s %s no bank marks, so all %s conveyance is the channel's: the overbank flow lengths of %s %s "+
+		"cannot be applied at %s, and the channel flow length is used for %s of the weighted length; "+
+		"mark %s banks for the overbank lengths to count",
+		rating.Agree(n, "section", "sections"), joinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
+		rating.Agree(len(parts), "the subreach", "the subreaches"), joinAnd(parts), rating.Agree(n, "it", "them"),
+		rating.Agree(n, "its half", "their halves"), rating.Agree(n, "its", "their"))}
+}
+
+// joinAnd joins words as "a", "a and b", "a, b and c".
+func joinAnd(w []string) string {
+	if len(w) < 2 {
+		return strings.Join(w, "")
+	}
+	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
+}
+
+// hasOverbank reports whether g has a subsection in an overbank region.
+func hasOverbank(g subdivide.Geometry) bool {
+	for _, sub := range g.Subsections() {
+		if sub.Region != subdivide.Channel {
+			return true
+		}
+	}
+	return false
 }
 
 // orderWarnings returns a warning when the reach, listed upstream first,
@@ -740,8 +807,8 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 		}
 	}
 	if crit > 0 {
-		out = append(out, fmt.Sprintf("at %d of %d discharges the profile passes through critical depth (see the sections marked critical): "+
-			"the computed stages there are critical depth, not a subcritical profile", crit, len(ps)))
+		out = append(out, fmt.Sprintf("%s the profile passes through critical depth (see the sections marked critical): "+
+			"the computed stages there are critical depth, not a subcritical profile", atOf(crit, len(ps))))
 	}
 	if jumps > 0 {
 		out = append(out, fmt.Sprintf("at %s (marked jump) the hydraulics jump at the computed stage "+
@@ -749,11 +816,11 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 			rating.Counted(jumps, "section stage", "section stages"), worst, u.Length()))
 	}
 	if starts > 0 {
-		out = append(out, fmt.Sprintf("at %d of %d discharges the boundary stage is below critical depth: those profiles start at critical depth", starts, len(ps)))
+		out = append(out, fmt.Sprintf("%s the boundary stage is below critical depth: those profiles start at critical depth", atOf(starts, len(ps))))
 	}
 	if third > 0 {
-		out = append(out, fmt.Sprintf("at %d of %d discharges no stage tried between the two starts is subcritical: "+
-			"the third profile starts at the first start there and does not check it (see the profiles' notes)", third, len(ps)))
+		out = append(out, fmt.Sprintf("%s no stage tried between the two starts is subcritical: "+
+			"the third profile starts at the first start there and does not check it (see the profiles' notes)", atOf(third, len(ps))))
 	}
 	if w := unsettledWarning(rt, u); w != "" {
 		out = append(out, w)
@@ -762,23 +829,67 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 }
 
 // unsettledWarning words the warning for rating reads whose profiles
-// still differ, or returns "".
+// still differ, or returns "". The discharges are given as the runs of
+// unsettled ones among all, in ascending order (dischargeRuns), so that
+// the settled discharges between them are not counted in.
 func unsettledWarning(rt BackwaterRating, u rating.Units) string {
 	n, worst := 0, 0.0
-	qlo, qhi := math.Inf(1), math.Inf(-1)
 	for _, row := range rt.Rows {
-		if !row.Unsettled {
-			continue
+		if row.Unsettled {
+			n++
+			worst = math.Max(worst, row.Spread)
 		}
-		n++
-		worst = math.Max(worst, row.Spread)
-		qlo, qhi = math.Min(qlo, row.Discharge), math.Max(qhi, row.Discharge)
 	}
 	if n == 0 {
 		return ""
 	}
-	return fmt.Sprintf("at %d of %d discharges (%.4g to %.4g %s) the profiles from the boundary and the check starts still differ at %s "+
+	return fmt.Sprintf("%s (%s) the profiles from the boundary and the check starts still differ at %s "+
 		"by more than %g %s (at most %.3f %s): the reach is too short for the boundary to be forgotten there; "+
-		"those rating stages depend on the boundary", n, len(rt.Rows), qlo, qhi, u.Discharge(), rt.Section,
-		rt.Tolerance, u.Length(), worst, u.Length())
+		"those rating stages depend on the boundary", atOf(n, len(rt.Rows)),
+		dischargeRuns(rt.Rows, u), rt.Section, rt.Tolerance, u.Length(), worst, u.Length())
+}
+
+// atOf words k of n discharges: "at 3 of 40 discharges", or "at the one
+// discharge" when n is 1.
+func atOf(k, n int) string {
+	if n == 1 {
+		return "at the one discharge"
+	}
+	return fmt.Sprintf("at %d of %d discharges", k, n)
+}
+
+// maxRuns is the most runs of discharges a warning lists before it counts
+// the rest.
+const maxRuns = 4
+
+// dischargeRuns words the unsettled reads' discharges as runs: the reads
+// in ascending order of discharge, each run a stretch of unsettled ones
+// between settled ones, written "q" when it holds one discharge and
+// "q1 to q2" otherwise, the runs joined by commas and "and", with the
+// unit: "1 and 78 to 200 m3/s". Past maxRuns the rest are counted ("1, 3,
+// 5 m3/s and 3 more runs").
+func dischargeRuns(rows []RatingRead, u rating.Units) string {
+	rs := slices.Clone(rows)
+	slices.SortStableFunc(rs, func(a, b RatingRead) int { return cmp.Compare(a.Discharge, b.Discharge) })
+	var runs []string
+	for i := 0; i < len(rs); i++ {
+		if !rs[i].Unsettled {
+			continue
+		}
+		j := i
+		for j+1 < len(rs) && rs[j+1].Unsettled {
+			j++
+		}
+		lo, hi := rating.PlainFigures(rs[i].Discharge, 4), rating.PlainFigures(rs[j].Discharge, 4)
+		if lo == hi {
+			runs = append(runs, lo)
+		} else {
+			runs = append(runs, lo+" to "+hi)
+		}
+		i = j
+	}
+	if len(runs) > maxRuns {
+		return fmt.Sprintf("%s %s and %d more runs", strings.Join(runs[:maxRuns-1], ", "), u.Discharge(), len(runs)-(maxRuns-1))
+	}
+	return joinAnd(runs) + " " + u.Discharge()
 }

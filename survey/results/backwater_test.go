@@ -182,3 +182,34 @@ func TestWriteBackwaterWorkbook(t *testing.T) {
 		t.Error("unsettled read not marked")
 	}
 }
+
+// The console summary of a backwater run gives the rating section's stage
+// range, or its one stage when every read is the same, and counts the
+// reads with their noun.
+func TestWriteBackwaterSummary(t *testing.T) {
+	for _, tc := range []struct {
+		name   string
+		stages []float64
+		want   string
+	}{
+		{"one discharge", []float64{53.8321}, "; at S1 stage 53.832 m, 0 of 1 read unsettled\n"},
+		{"equal stages", []float64{53.8321, 53.8324}, "; at S1 stage 53.832 m, 0 of 2 reads unsettled\n"},
+		{"a range", []float64{53.8321, 54.1}, "; at S1 stages 53.832 to 54.100 m, 0 of 2 reads unsettled\n"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rep := reach.BackwaterReport{Result: reach.Backwater{Boundary: reach.Boundary{Kind: reach.KnownStage, Stage: 51.2},
+				Rating: reach.BackwaterRating{Section: "S1"}}}
+			for i, h := range tc.stages {
+				rep.Result.Profiles = append(rep.Result.Profiles, reach.SurfaceProfile{})
+				rep.Result.Rating.Rows = append(rep.Result.Rating.Rows, reach.RatingRead{Discharge: 10 * float64(i+1), Stage: h})
+			}
+			var b strings.Builder
+			if err := results.WriteBackwaterSummary(&b, rep, "out.csv"); err != nil {
+				t.Fatal(err)
+			}
+			if first, _, _ := strings.Cut(b.String(), "\n"); !strings.HasSuffix(first+"\n", tc.want) {
+				t.Errorf("summary %q, want its first line to end %q", b.String(), tc.want)
+			}
+		})
+	}
+}

@@ -149,8 +149,9 @@ func WriteSlopeAreaSummary(w io.Writer, rep reach.Report, path string) error {
 }
 
 // WriteBackwaterSummary says that a step-backwater report was written to
-// path: the discharges, the rating section's stage range and how many
-// reads still depend on the boundary.
+// path: the discharges, the rating section's stage range (one stage when
+// every read is the same to the three decimals shown) and how many reads
+// still depend on the boundary.
 func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) error {
 	bw := bufio.NewWriter(w)
 	r := rep.Result
@@ -165,9 +166,13 @@ func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) 
 		}
 	}
 	if len(r.Rating.Rows) > 0 {
-		fmt.Fprintf(bw, "; at %s stages %.3f to %.3f %s", r.Rating.Section, lo, hi, u.Length())
+		if l, h := fmt.Sprintf("%.3f", lo), fmt.Sprintf("%.3f", hi); l == h {
+			fmt.Fprintf(bw, "; at %s stage %s %s", r.Rating.Section, l, u.Length())
+		} else {
+			fmt.Fprintf(bw, "; at %s stages %s to %s %s", r.Rating.Section, l, h, u.Length())
+		}
 	}
-	fmt.Fprintf(bw, ", %d of %d reads unsettled\n", unsettled, len(r.Rating.Rows))
+	fmt.Fprintf(bw, ", %d of %s unsettled\n", unsettled, rating.Counted(len(r.Rating.Rows), "read", "reads"))
 	return endSummary(bw, rep.Warnings)
 }
 
