@@ -148,22 +148,19 @@ func hasOverbank(g subdivide.Geometry) bool {
 	return false
 }
 
-// orderWarnings returns a warning when the reach, listed upstream first,
-// looks listed downstream first: the thalweg (lowest ground) of the last
-// section above that of the first, or the high-water marks (the mean of
-// a section's given marks) at the last section with marks above those at
-// the first. Neither is refused: a bed may rise over a short reach (a
-// riffle below a pool), and the marks serve only --verify; but both
-// together are a reach listed the wrong way round, whose profile is
-// computed over a bed rising downstream.
+// orderWarnings returns warnings when the reach, listed upstream first,
+// may be listed downstream first: the high-water marks (the mean of a
+// section's given marks) at the last section with marks above those at
+// the first, which a steady profile does not do; or the thalweg (lowest
+// ground) of the last section above that of the first. Neither is
+// refused. A bed may rise over a short reach (a riffle or weir below a
+// pool, the very control a gauge above it relies on), so a rising bed
+// alone is worded as a question; with the marks rising too, the reach is
+// most likely listed the wrong way round, and the warning says so.
 func orderWarnings(secs []Section, u rating.Units) []string {
-	var out []string
 	first, last := secs[0], secs[len(secs)-1]
-	if zu, zd := first.Geometry.Bottom(), last.Geometry.Bottom(); zd > zu {
-		out = append(out, fmt.Sprintf("the bed rises %.3g %s downstream over the reach (thalweg of %s at %.3f, of %s at %.3f %s): "+
-			"check that the sections are listed upstream first, with distances increasing downstream",
-			zd-zu, u.Length(), first.ID, zu, last.ID, zd, u.Length()))
-	}
+	zu, zd := first.Geometry.Bottom(), last.Geometry.Bottom()
+	bedRises := zd > zu
 	up, down := -1, -1
 	for i, s := range secs {
 		if finite(markMean(s)) {
@@ -173,12 +170,27 @@ func orderWarnings(secs []Section, u rating.Units) []string {
 			down = i
 		}
 	}
+	marksRise := false
+	var hu, hd float64
 	if up >= 0 && down > up {
-		if hu, hd := markMean(secs[up]), markMean(secs[down]); hd > hu {
-			out = append(out, fmt.Sprintf("the high-water marks rise %.3g %s downstream over the reach (%s at %.3f, %s at %.3f %s): "+
-				"check that the sections are listed upstream first, with distances increasing downstream",
-				hd-hu, u.Length(), secs[up].ID, hu, secs[down].ID, hd, u.Length()))
-		}
+		hu, hd = markMean(secs[up]), markMean(secs[down])
+		marksRise = hd > hu
+	}
+	const check = "check that the sections are listed upstream first, with distances increasing downstream"
+	var out []string
+	switch {
+	case bedRises && marksRise:
+		out = append(out, rating.Sayf("the bed and the high-water marks both rise downstream over the reach (thalweg of %s at %.3f, of %s at %.3f %s; marks of %s at %.3f, of %s at %.3f %s): "+
+			"the reach is most likely listed downstream first; "+check,
+			first.ID, zu, last.ID, zd, u.Length(), secs[up].ID, hu, secs[down].ID, hd, u.Length()))
+	case marksRise:
+		out = append(out, rating.Sayf("the high-water marks rise %.3g %s downstream over the reach (%s at %.3f, %s at %.3f %s), which a steady water surface does not: "+
+			"check the marks, and "+check,
+			hd-hu, u.Length(), secs[up].ID, hu, secs[down].ID, hd, u.Length()))
+	case bedRises:
+		out = append(out, rating.Sayf("the bed rises %.3g %s downstream over the reach (thalweg of %s at %.3f, of %s at %.3f %s): "+
+			"a riffle or weir below a pool does this; if the reach has none, "+check,
+			zd-zu, u.Length(), first.ID, zu, last.ID, zd, u.Length()))
 	}
 	return out
 }
