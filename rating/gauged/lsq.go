@@ -186,6 +186,10 @@ type ControlFit struct {
 	// warning: ExponentRange of its kind, or for a Bayesian fit with a
 	// prior from the survey that range widened to the section's own.
 	Exponents []ExponentBounds
+	// NoStandardErrors says why a least-squares fit gives no standard
+	// errors of its parameters ("" when it gives them): the delta method's
+	// matrix JᵀWJ is singular, or the gaugings lie on the rating exactly.
+	NoStandardErrors string
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 
@@ -871,8 +875,12 @@ func (f *ControlFit) finishLSQ(ssr float64) {
 			}
 		}
 	}
-	if f.cov == nil && s2 > 0 {
+	switch {
+	case f.cov == nil && s2 > 0:
+		f.NoStandardErrors = "the gaugings do not determine every parameter (the matrix JᵀWJ of the delta method is singular)"
 		f.Warnings = append(f.Warnings, "the parameters are not all determined by the gaugings: standard errors and bands are not available")
+	case f.cov == nil:
+		f.NoStandardErrors = "the gaugings lie on the rating exactly (no scatter to measure)"
 	}
 	f.Controls = f.controlsWithSE(func(g []float64) float64 {
 		if f.cov == nil {

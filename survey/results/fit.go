@@ -619,12 +619,8 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		case j > 0:
 			join = ", replaces the one below"
 		}
-		b := fmt.Sprintf("%.4f ± %s %s", c.B, sig(c.BSE, 2), L)
-		if math.IsNaN(c.BSE) {
-			b = fmt.Sprintf("%.4f %s (held)", c.B, L)
-		}
-		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %s to %s expected)\n",
-			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), sig(lo, 3), sig(hi, 3))
+		p("  control %d (%s%s), %s: A = %s, B = %s, C = %s (exponents %s to %s expected)\n",
+			j+1, c.Kind, join, segmentStages(f, j, L), withSE(sig(c.A, 5), c.ASE, "", f), offsetWords(f, j, L), withSE(fmt.Sprintf("%.4f", c.C), c.CSE, "", f), sig(lo, 3), sig(hi, 3))
 		if j > 0 {
 			if f.BreaksFixed || math.IsNaN(c.FromSE) {
 				p("    breakpoint %.4f %s%s\n", c.From, L, map[bool]string{true: " (given)", false: " (no standard error)"}[f.BreaksFixed])
@@ -643,6 +639,9 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	if f.OffsetFixed {
 		p("  first offset held at %.4f %s (%s)\n", f.Controls[0].B, L, f.OffsetSource)
 	}
+	if f.NoStandardErrors != "" {
+		p("  no standard errors: %s\n", f.NoStandardErrors)
+	}
 	p("  %s\n", standardErrorWords(f))
 	if m := r.MoreControls; m.Made {
 		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
@@ -654,6 +653,44 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// withSE writes a fitted value v with its standard error se ("± se"), or
+// v alone when the fit gives no standard errors (ControlFit.NoStandardErrors,
+// said once below the controls). unit follows the standard error.
+func withSE(v string, se float64, unit string, f *gauged.ControlFit) string {
+	if unit != "" {
+		unit = " " + unit
+	}
+	if f.NoStandardErrors != "" {
+		return v + unit
+	}
+	return fmt.Sprintf("%s ± %s%s", v, sig(se, 2), unit)
+}
+
+// offsetWords writes control j's offset B with what it is: held at a
+// given value (the first control, --zero-flow), its breakpoint (an added
+// control), fitted (the first) or set by continuity at the breakpoint (a
+// replacing control), with its standard error where the fit gives one
+// (then alone, as the other parameters are).
+func offsetWords(f *gauged.ControlFit, j int, L string) string {
+	c := f.Controls[j]
+	b := fmt.Sprintf("%.4f", c.B)
+	switch {
+	case j == 0 && f.OffsetFixed:
+		return b + " " + L + " (held)"
+	case j > 0 && c.Joint == gauged.Add && (f.NoStandardErrors != "" || math.IsNaN(c.BSE)):
+		return b + " " + L + " (its breakpoint)"
+	case f.NoStandardErrors != "" && j == 0:
+		return b + " " + L + " (fitted)"
+	case f.NoStandardErrors != "":
+		return b + " " + L + " (by continuity at its breakpoint)"
+	case math.IsNaN(c.BSE) && j == 0:
+		return b + " " + L + " (fitted, no standard error)"
+	case math.IsNaN(c.BSE):
+		return b + " " + L + " (by continuity at its breakpoint, no standard error)"
+	}
+	return fmt.Sprintf("%s ± %s %s", b, sig(c.BSE, 2), L)
 }
 
 // ofSection names a report's section for "hydraulic rating …" ("" when

@@ -162,3 +162,51 @@ func TestFitNamesSectionAsSection(t *testing.T) {
 		t.Errorf("workbook site %q, section %q", items["site"], items["section"])
 	}
 }
+
+// A least-squares fit whose gaugings do not determine every parameter
+// (the delta method's JᵀWJ singular, as the trial's Patuxent fit with
+// breakpoints 7,12 ft was before its runaway exponent was refused) has
+// no standard errors: the text says each offset is fitted, or set by
+// continuity at its breakpoint, and says once why no standard errors are
+// given, instead of "(held)" beside a fitted offset and "± -" beside
+// every value. An offset held by --zero-flow is still "(held)".
+func TestFitTextSaysFittedWithoutStandardErrors(t *testing.T) {
+	gs := labelGaugings([]float64{0.5, 0.6, 0.7, 0.8, 0.9, 1.0, 1.2, 1.4, 1.6, 1.8, 2.0, 2.2, 2.4, 2.6})
+	for _, tc := range []struct {
+		name      string
+		opt       gauged.ControlOptions
+		text, not []string
+	}{
+		{"fitted offset", gauged.ControlOptions{Breaks: []float64{1.5}},
+			[]string{"B = 0.3", " m (fitted), C = ", " m (by continuity at its breakpoint), C = ", "  no standard errors: the gaugings do not determine every parameter"},
+			[]string{"(held)", "± -", "± NaN"}},
+		{"held offset", gauged.ControlOptions{Breaks: []float64{1.5}, OffsetFixed: true, Offset: 0.3},
+			[]string{"B = 0.3000 m (held), C = ", " m (by continuity at its breakpoint), C = "},
+			[]string{"(fitted)", "± -"}},
+	} {
+		rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI, Method: gauged.LeastSquares, Controls: tc.opt})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := rep.Fit
+		f.NoStandardErrors = "the gaugings do not determine every parameter (the matrix JᵀWJ of the delta method is singular)"
+		for j := range f.Controls {
+			c := &f.Controls[j]
+			c.ASE, c.BSE, c.CSE, c.FromSE = math.NaN(), math.NaN(), math.NaN(), math.NaN()
+		}
+		var text bytes.Buffer
+		if err := results.WriteFitText(&text, rep); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range tc.text {
+			if !strings.Contains(text.String(), w) {
+				t.Errorf("%s: text lacks %q", tc.name, w)
+			}
+		}
+		for _, w := range tc.not {
+			if strings.Contains(text.String(), w) {
+				t.Errorf("%s: text has %q", tc.name, w)
+			}
+		}
+	}
+}
