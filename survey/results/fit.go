@@ -739,8 +739,9 @@ func writePosterior(p printer, post *gauged.Posterior) {
 // writeFitChecks writes the ISO tests and Johnson's check.
 func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L := r.Units.Length()
-	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; failed below p = %s):\n", sig(gauged.RelationTestLevel, shortest))
-	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; the mean departure weighted 1/σ², as the fit weights the gaugings; failed below p = %s):\n",
+		sig(gauged.RelationTestLevel, shortest))
+	for i, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		verdict := "passes"
 		if t.Failed {
 			verdict = "FAILS"
@@ -748,7 +749,11 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(t.P) {
 			verdict = "not made"
 		}
-		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
+		stat := sig(t.Statistic, 4)
+		if i == 2 {
+			stat = fixed(t.Statistic, 3) // Student's t; a least-squares fit's is zero to its tolerance
+		}
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, stat, sig(t.P, 3), verdict)
 	}
 	if j := f.Johnson; j.OK {
 		p("Johnson's three-point check of the first offset: e = %.4f %s (gauge heights %.3f, %.3f, %.3f %s of %s, %s, %s %s); fitted B = %.4f %s\n",
