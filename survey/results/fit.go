@@ -245,6 +245,10 @@ type jsonJohnson struct {
 	G2            Float  `json:"g2"`
 	G3            Float  `json:"g3"`
 	Note          string `json:"note"`
+	// StandardError is the standard error of zero_flow_stage and
+	// Determined whether it is small enough for the check (appended keys).
+	StandardError Float `json:"standard_error"`
+	Determined    bool  `json:"determined"`
 }
 
 type jsonMore struct {
@@ -425,7 +429,8 @@ func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 	test := func(t gauged.RelationTest) jsonTest { return jsonTest{t.N, Float(t.Statistic), Float(t.P), t.Failed} }
 	out.Tests = &jsonTests{Float(gauged.RelationTestLevel), test(f.Tests.Sign), test(f.Tests.Runs), test(f.Tests.Mean)}
 	j := f.Johnson
-	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note}
+	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
+		Float(j.ZeroFlowSE), j.OK && !j.Undetermined}
 	if p := f.Posterior; p != nil {
 		jp := &jsonPosterior{Parameters: []jsonParam{}, RHatMax: Float(p.RHatMax), RHatParameter: p.RHatParam, ESSMin: Float(p.ESSMin),
 			ESSParameter: p.ESSParam, Acceptance: Float(p.Acceptance), Converged: p.Converged, RHatLimit: Float(gauged.RHatLimit),
@@ -755,12 +760,23 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, stat, sig(t.P, 3), verdict)
 	}
-	if j := f.Johnson; j.OK {
+	if j := f.Johnson; j.OK && j.Undetermined {
+		p("Johnson's three-point check of the first offset: %s; fitted B = %.4f %s\n", j.Note, f.Controls[0].B, L)
+	} else if j.OK {
 		p("Johnson's three-point check of the first offset: e = %.4f %s (gauge heights %.3f, %.3f, %.3f %s of %s, %s, %s %s); fitted B = %.4f %s\n",
-			j.ZeroFlow, L, j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
+			j.ZeroFlow, johnsonPlusMinus(j, L), j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
 	} else {
 		p("Johnson's three-point check of the first offset: not made (%s)\n", j.Note)
 	}
+}
+
+// johnsonPlusMinus writes the unit L of Johnson's estimate after its 95 %
+// uncertainty ("± U L (95 %)"), or L alone when that is not known.
+func johnsonPlusMinus(j gauged.JohnsonEstimate, L string) string {
+	if math.IsNaN(j.ZeroFlowSE) {
+		return L
+	}
+	return "± " + sig(gauged.CoverageFactor95*j.ZeroFlowSE, 2) + " " + L + " (95 %)"
 }
 
 // writeGaugingRows writes every gauging with its departures.
