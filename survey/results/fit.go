@@ -608,7 +608,7 @@ type printer func(format string, a ...any)
 func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L, Q := r.Units.Length(), r.Units.Discharge()
 	p("\nFitted rating: %s, each Q = A·(h − B)^C with its own offset B (h gauge height in %s, Q in %s), %s, %s\n",
-		rating.Counted(len(f.Controls), "control", "controls"), L, Q, rating.Counted(f.N, "gauging", "gaugings"), rating.Counted(f.Params, "parameter", "parameters"))
+		rating.Counted(len(f.Controls), "control", "controls"), L, Q, rating.Counted(f.N, "gauging", "gaugings"), parameterWords(f))
 	p("  method: %s\n", methodWords(f))
 	what := "±: standard errors"
 	if f.Method == gauged.Bayesian {
@@ -658,6 +658,18 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// parameterWords counts the parameters a fit moved, saying which are the
+// rating's when a Bayesian fit's remnant error is one of them: the
+// degrees of freedom of the standard error of estimate are the gaugings
+// less the rating's alone.
+func parameterWords(f *gauged.ControlFit) string {
+	all := rating.Counted(f.Params, "parameter", "parameters")
+	if own := f.N - f.StandardErrorDF; f.Method == gauged.Bayesian && own == f.Params-1 {
+		return fmt.Sprintf("%s (%d of the rating and the remnant error)", all, own)
+	}
+	return all
 }
 
 // withSE writes a fitted value v with its standard error se ("± se"), or

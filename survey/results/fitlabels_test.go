@@ -55,6 +55,14 @@ func TestFitLabels(t *testing.T) {
 			items:   map[string]string{"degrees of freedom of the standard error of estimate": "9|"},
 		},
 		{
+			// A Bayesian fit moves the remnant error too: 4 parameters
+			// beside 14 − 3 = 11 degrees of freedom, which the count says.
+			name: "Bayesian, parameters beside degrees of freedom", gs: many,
+			opt:     gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
+			text:    []string{"14 gaugings, 4 parameters (3 of the rating and the remnant error)", " in ln Q, 11 degrees of freedom)"},
+			summary: "(11 degrees of freedom)",
+		},
+		{
 			name: "least squares, two gaugings left out", gs: selected,
 			text:    []string{" in ln Q, 9 degrees of freedom)"},
 			summary: "wrote out: 12 gaugings fitted of 14 read;",
@@ -64,8 +72,9 @@ func TestFitLabels(t *testing.T) {
 			// Three gaugings for the three parameters of one control
 			// (A, B, C; the remnant error is no parameter of the rating).
 			name: "Bayesian, as many gaugings as parameters", gs: labelGaugings([]float64{0.6, 1.2, 2.0}),
-			opt:     gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
-			text:    []string{"weighted standard error of estimate not defined: 3 gaugings for 3 parameters of the rating, the remnant error aside"},
+			opt: gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
+			text: []string{"weighted standard error of estimate not defined: 3 gaugings for 3 parameters of the rating, the remnant error aside",
+				"3 gaugings, 4 parameters (3 of the rating and the remnant error)"},
 			not:     []string{"- % (- in ln Q)"},
 			summary: "weighted standard error not defined (3 gaugings for 3 parameters of the rating)",
 			items: map[string]string{"weighted standard error of estimate": "not defined: 3 gaugings for 3 parameters of the rating, " +
