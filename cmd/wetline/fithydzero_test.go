@@ -84,6 +84,43 @@ func TestFitHydraulicTableZeroFlow(t *testing.T) {
 	if !slicesContain(plain.Warnings, "read linearly in stage between rows; give --hydraulic-zero-flow E") {
 		t.Errorf("without the flag: warnings %q", plain.Warnings)
 	}
+	// The extension above the gaugings reads the table the same way: its
+	// rows are the table's discharge times one factor, and at 24 ft
+	// (between the rows 20.85 ft, 16497.75, and 27.9 ft, 31100) the
+	// table's discharge is, in closed form, read log-linearly in h − 2.
+	out, errs, err := fitRun(t, "fit", gaugings, "--units", "us", "--hydraulic-rating", table, "--hydraulic-zero-flow", "2",
+		"--method", "lsq", "--to", "27", "--step", "1", "--format", "json")
+	if err != nil {
+		t.Fatalf("%v %s", err, errs)
+	}
+	var ext struct {
+		Table []struct {
+			Stage, Discharge, Hydraulic float64
+			Basis                       string
+		} `json:"table"`
+	}
+	if err := json.Unmarshal([]byte(out), &ext); err != nil {
+		t.Fatal(err)
+	}
+	b24 := math.Log(31100/16497.75) / math.Log(25.9/18.85)
+	factor := math.NaN()
+	for _, r := range ext.Table {
+		if r.Basis != "conveyance-slope" {
+			continue
+		}
+		if math.IsNaN(factor) {
+			factor = r.Discharge / r.Hydraulic
+		}
+		if math.Abs(r.Discharge/r.Hydraulic/factor-1) > 1e-9 {
+			t.Errorf("extension at %g ft: %g is %g times the table's %g, not %g", r.Stage, r.Discharge, r.Discharge/r.Hydraulic, r.Hydraulic, factor)
+		}
+		if want := 16497.75 * math.Pow((24-2)/(20.85-2), b24); r.Stage == 24 && math.Abs(r.Hydraulic/want-1) > 1e-9 {
+			t.Errorf("table at 24 ft: %g, want %g", r.Hydraulic, want)
+		}
+	}
+	if math.IsNaN(factor) {
+		t.Error("no extension rows")
+	}
 	_, errs, code := runCLI(t, "fit", gaugings, "--units", "us", "--hydraulic-rating", table, "--hydraulic-zero-flow", "3", "--compare-only")
 	if code != 1 || !strings.Contains(errs, "fit: --hydraulic-zero-flow 3: ") || !strings.Contains(errs, "above a row with flow") {
 		t.Errorf("e above the first row: exit %d, %q", code, errs)
