@@ -69,7 +69,7 @@ func TestJohnsonNotDeterminedOnShortRange(t *testing.T) {
 				t.Errorf("%v: warning %q", tc.breaks, w)
 			}
 		}
-		if tc.breaks != nil && len(tc.breaks) == 1 && math.Abs(j.ZeroFlow-2.3865) > 1e-3 {
+		if len(tc.breaks) == 1 && math.Abs(j.ZeroFlow-2.3865) > 1e-3 {
 			t.Errorf("%v: e = %g, want 2.3865 (as before)", tc.breaks, j.ZeroFlow)
 		}
 	}
