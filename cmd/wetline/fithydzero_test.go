@@ -50,6 +50,10 @@ func TestFitHydraulicTableZeroFlow(t *testing.T) {
 		return d
 	}
 	fit := read("fit", gaugings, "--units", "us", "--hydraulic-rating", table, "--hydraulic-zero-flow", "2", "--compare-only", "--format", "json")
+	if text, errs, err := fitRun(t, "fit", gaugings, "--units", "us", "--hydraulic-rating", table, "--hydraulic-zero-flow", "2", "--compare-only"); err != nil ||
+		!strings.Contains(text, "(read at gauge heights, log-linearly in (h − e) between rows, e = 2 ft)") {
+		t.Errorf("text does not say how the table is read: %v %s", err, errs)
+	}
 	sh := read("shifts", gaugings, "--units", "us", "--rating", table, "--zero-flow", "2", "--format", "json")
 	b := math.Log(4350.0/1175) / math.Log(11.0/7)
 	want := 1175 * math.Pow((10.91-2)/(9-2), b)

@@ -559,7 +559,11 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	case r.Hydraulic != nil:
 		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %s\n", ofSection(r), sig(r.Slope, shortest))
 	case r.HydraulicTable != nil:
-		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
+		how := "linearly in stage between rows"
+		if e, ok := r.HydraulicTable.ZeroFlow(); ok {
+			how = fmt.Sprintf("log-linearly in (h − e) between rows, e = %s %s", rating.PlainFigures(e, 6), L)
+		}
+		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights, %s)\n", r.HydraulicSource, how)
 	default:
 		p("Gauge datum: stages are gauge heights as read; no section given, so no hydraulic rating\n")
 	}
