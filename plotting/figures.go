@@ -168,7 +168,7 @@ func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure,
 // them, and the gaugings with bars at their uncertainty, those left out
 // of the fit marked Excluded. site titles it.
 func FitPlot(rep *gauged.Report, site string) RatingPlot {
-	rp := RatingPlot{Site: site, Section: cmp.Or(rep.Section, rep.Site), Units: rep.Units}
+	rp := RatingPlot{Site: site, Section: cmp.Or(rep.Section, rep.Site), Units: rep.Units, PadEnds: true}
 	var sub []string
 	if rep.Curve != nil {
 		c := Curve{Label: fmt.Sprintf("hydraulic rating (Manning, slope %g)", rep.Slope)}

@@ -146,6 +146,30 @@ type RatingPlot struct {
 	Caution string
 	// Size is the pixel size (zero value: the default).
 	Size Size
+	// PadEnds widens both panels' axes past their data (EndPad, EndPadLog) so that a
+	// gauging at the top or at the end of a band is drawn whole, not cut
+	// at the panel's edge (the fit figure sets it).
+	PadEnds bool
+}
+
+// EndPad is the margin PadEnds adds at the top of a linear axis, as a
+// fraction of its span, and EndPadLog the margin in decades at each end
+// of a log axis beyond the data: each more than a marker's half width on
+// the default size.
+const (
+	EndPad    = 0.03
+	EndPadLog = 0.05
+)
+
+// padLinear widens a linear axis at its top by EndPad of its span (its
+// foot, zero discharge or the stage of zero flow, is left as it is).
+func padLinear(a *plot.Axis) { a.Max += EndPad * (a.Max - a.Min) }
+
+// padLog widens a log axis whose ends come within EndPadLog of a decade
+// of its data lo..hi, to that margin.
+func padLog(a *plot.Axis, lo, hi float64) {
+	f := math.Pow(10, EndPadLog)
+	a.Min, a.Max = math.Min(a.Min, lo/f), math.Max(a.Max, hi*f)
 }
 
 // Rating draws a rating figure as a PNG into w: stage against discharge
@@ -181,12 +205,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	if !haveE {
 		res.Warnings = append(res.Warnings, "no gauge height of zero flow known: the log–log panel is left out")
 	}
-	panels := []*plot.Plot{linearRatingPanel(r, d, un, e, haveE)}
-	if haveE {
-		if lg := logRatingPanel(d, un, e, &res); lg != nil {
-			panels = append(panels, lg)
-		}
-	}
+	panels := ratingPanels(r, d, un, e, haveE, &res)
 	caution := orDefault(r.Caution, DefaultCaution)
 	fig := figure{
 		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
@@ -199,6 +218,29 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		return nil
 	})
 	return res, err
+}
+
+// ratingPanels lays out the linear panel and, when e is known, the
+// log–log one, each padded at its ends when r.PadEnds asks.
+func ratingPanels(r RatingPlot, d ratingLines, un unitNames, e float64, haveE bool, res *Result) []*plot.Plot {
+	lin := linearRatingPanel(r, d, un, e, haveE)
+	if r.PadEnds {
+		padLinear(&lin.X)
+		padLinear(&lin.Y)
+	}
+	panels := []*plot.Plot{lin}
+	if !haveE {
+		return panels
+	}
+	if lg := logRatingPanel(d, un, e, res); lg != nil {
+		if r.PadEnds {
+			xlo, xhi, ylo, yhi := logExtent(append(d.hyd, d.ext...), d.fit, append(d.band, d.total...), d.gaugings, e)
+			padLog(&lg.X, xlo, xhi)
+			padLog(&lg.Y, ylo, yhi)
+		}
+		panels = append(panels, lg)
+	}
+	return panels
 }
 
 // ratingLines are the drawable parts of a rating figure: its curves

@@ -18,7 +18,7 @@ import (
 	"wetline/survey/results"
 )
 
-const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S | --hydraulic-rating TABLE] [--datum D] [--channel-only] [--compare-only] " +
+const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S | --hydraulic-rating TABLE [--hydraulic-zero-flow E]] [--datum D] [--channel-only] [--compare-only] " +
 	"[--method bayes|lsq] [--controls N] [--breaks H1,H2] [--kinds K1,K2] [--joints J2] [--zero-flow auto|control|VALUE] " +
 	"[--control-section RIFFLE] [--n-cv CV] [--slope-cv CV] [--draws N] [--chains N] [--seed N] [--show-unconverged] " +
 	"[--exclude TIME,...] [--period FROM..TO] [--utc-offset ±HH:MM] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
@@ -38,6 +38,7 @@ type fitFlags struct {
 	slope           float64
 	hydraulicTable  string
 	hydraulicSheet  string
+	hydraulicZero   float64
 	datum           float64
 	channelOnly     bool
 	compareOnly     bool
@@ -70,6 +71,8 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.notGiven("slope")
 	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
 	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first visible sheet)")
+	fs.Float64Var(&f.hydraulicZero, "hydraulic-zero-flow", 0, "gauge height of zero flow e of --hydraulic-rating: between rows the table is read log-linearly in (h − e), as shifts, record and compare read a rating given --zero-flow (default: the stage of the table's dry foot, its last leading row without flow; a table with neither is read linearly, with a warning)")
+	fs.notGiven("hydraulic-zero-flow")
 	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
 	fs.notGiven("datum")
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
@@ -170,7 +173,8 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	var table *gauged.TableRating
 	var tableWarnings []string
 	if f.hydraulicTable != "" {
-		if table, tableWarnings, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, &d); err != nil {
+		zero := hydraulicZero{given: f.fs != nil && f.fs.Changed("hydraulic-zero-flow"), e: f.hydraulicZero}
+		if table, tableWarnings, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, zero, &d); err != nil {
 			return nil, err
 		}
 	}
@@ -242,12 +246,28 @@ func (in *fitInputs) addSection(p *survey.Prepared) {
 	in.notes = append(in.notes, p.Notes...)
 }
 
+// hydraulicZero is the gauge height of zero flow given for a hydraulic
+// rating table (--hydraulic-zero-flow), when given.
+type hydraulicZero struct {
+	given bool
+	e     float64
+}
+
 // readHydraulicTable reads a hydraulic rating table at gauge heights
-// (stage − datum): one rating, interpolated log-linearly in the stage
-// above its dry foot when it has one (survey.DryFoot). The units of its
-// headers must be those decided, or decide them (see unitsDecided.take).
-func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) (*gauged.TableRating, []string, error) {
-	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true})
+// (stage − datum) with the reader the shifts, record and compare commands
+// use (survey.ReadRatingTables), so that it is read as they read a rating:
+// log-linearly in (h − e) between rows, e the gauge height of zero flow
+// zero.e when given, else the stage of the table's dry foot
+// (survey.DryFoot); a table with neither is read linearly in stage,
+// with a warning. The units of its headers must be those decided, or
+// decide them (see unitsDecided.take). A zero-flow stage at or above a
+// row with flow is an error naming the flag.
+func readHydraulicTable(path, sheet string, datum float64, zero hydraulicZero, units *unitsDecided) (*gauged.TableRating, []string, error) {
+	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true, HasZeroFlow: zero.given, ZeroFlow: zero.e}
+	rt, err := survey.ReadRatingTables(path, opt)
+	if zero.given && errors.Is(err, gauged.ErrZeroFlowAbove) {
+		return nil, nil, fmt.Errorf("fit: --hydraulic-zero-flow %s: %w", strconv.FormatFloat(zero.e, 'g', -1, 64), err)
+	}
 	if err != nil {
 		return nil, nil, err
 	}
@@ -263,7 +283,12 @@ func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) 
 	if err != nil {
 		return nil, nil, fmt.Errorf("%s: %w", path, err)
 	}
-	return c, rt.Warnings, nil
+	warnings := rt.Warnings
+	if !tab.HasZeroFlow {
+		warnings = append(warnings, fmt.Sprintf("%s: the table has no row without flow and --hydraulic-zero-flow is not given, so it is read linearly in stage between rows; "+
+			"give --hydraulic-zero-flow E, its gauge height of zero flow, to read it log-linearly in (h − e) as shifts, record and compare do with --zero-flow", path))
+	}
+	return c, warnings, nil
 }
 
 // options checks the flags against each other and turns them into report
@@ -273,7 +298,7 @@ func (f *fitFlags) options(fs *flagSet) (gauged.Options, error) {
 	if err := f.checkSources(fs); err != nil {
 		return opt, err
 	}
-	if err := fs.within(survey.MaxElevation, "datum", "to", "step", "breaks"); err != nil {
+	if err := fs.within(survey.MaxElevation, "datum", "to", "step", "breaks", "hydraulic-zero-flow"); err != nil {
 		return opt, err
 	}
 	opt.ChannelOnly, opt.CompareOnly = f.channelOnly, f.compareOnly
@@ -327,7 +352,7 @@ func (f *fitFlags) checkSources(fs *flagSet) error {
 	if err := fs.needs("--section SURVEY, --hydraulic-rating TABLE or --control-section RIFFLE", f.section != "" || f.hydraulicTable != "" || f.controlSection != "", "datum"); err != nil {
 		return err
 	}
-	if err := fs.needs("--hydraulic-rating TABLE", f.hydraulicTable != "", "hydraulic-rating-sheet"); err != nil {
+	if err := fs.needs("--hydraulic-rating TABLE", f.hydraulicTable != "", "hydraulic-rating-sheet", "hydraulic-zero-flow"); err != nil {
 		return err
 	}
 	if err := fs.needs("--section SURVEY or --hydraulic-rating TABLE", f.section != "" || f.hydraulicTable != "", "compare-only", "n-cv", "slope-cv"); err != nil {

@@ -613,21 +613,23 @@ func TestFitBreakAboveGaugingsRefused(t *testing.T) {
 }
 
 // A breakpoint the gaugings cannot honour inside their range: the demo's
-// three gaugings above 2.5 m (2.52 to 2.96 m) would need a replacing
-// control of exponent about 200 to join the first at 2.5 m. Both methods
-// refuse with exit status 1 and name the control, its breakpoint and its
-// gaugings, not a bare "no admissible start" (demodata).
-func TestFitBreakNoStartNamesControl(t *testing.T) {
+// three gaugings above 2.5 m (2.52 to 2.96 m) rise from what the first
+// control gives at 2.5 m faster than a power law can, and least squares
+// drives the replacing control's exponent past MaxFitExponent as its
+// offset runs off below. Least squares refuses with exit status 1 and
+// names the control, its breakpoint, its gaugings and the exponent it
+// reached; a Bayesian fit with the section's prior on that exponent fits
+// it (demodata).
+func TestFitBreakRunawayNamesControl(t *testing.T) {
 	t.Parallel()
-	for _, args := range [][]string{
-		{"--method", "lsq"},
-		{"--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100"},
-	} {
-		out, errs, code := runCLI(t, append([]string{"fit", fitDemoGaugings, "--breaks", "2.5"}, args...)...)
-		if code != 1 || out != "" || !strings.Contains(errs, "control 2, from gauge height 2.5, would need an exponent of") ||
-			!strings.Contains(errs, "3 gaugings (2.52 to 2.96)") || strings.Count(errs, "\n") != 1 {
-			t.Errorf("%v: exit %d, stdout %q, stderr %q", args, code, out, errs)
-		}
+	out, errs, code := runCLI(t, "fit", fitDemoGaugings, "--breaks", "2.5", "--method", "lsq")
+	if code != 1 || out != "" || !strings.Contains(errs, "no power law of a control fits its gaugings: control 2 (from 2.5 m, 3 gaugings from 2.52 to 2.96 m): its least-squares exponent is ") ||
+		!strings.Contains(errs, ", above 10, ") || strings.Count(errs, "\n") != 1 {
+		t.Errorf("lsq: exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+	out, errs, code = runCLI(t, "fit", fitDemoGaugings, "--breaks", "2.5", "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100")
+	if code != 0 || !strings.Contains(out, "control 2 (channel, replaces the one below), 2.500 to 2.960 m") {
+		t.Errorf("bayes: exit %d, stderr %q", code, errs)
 	}
 }
 

@@ -262,6 +262,29 @@ func (r Rating) upTo(j int, h float64) float64 {
 	return q
 }
 
+// logUpTo is ln of upTo(j, h), computed from ln A + C·ln(h − B) and
+// summed in logarithms, so that it stays finite where (h − B)^C
+// overflows; −Inf where upTo is zero.
+func (r Rating) logUpTo(j int, h float64) float64 {
+	base := j
+	for base > 0 && r.Controls[base].Joint == Add {
+		base--
+	}
+	c := r.Controls[base]
+	l := math.Inf(-1)
+	if h > c.B {
+		l = math.Log(c.A) + c.C*math.Log(h-c.B)
+	}
+	for m := base + 1; m <= j; m++ {
+		if c := r.Controls[m]; h > c.From {
+			t := math.Log(c.A) + c.C*math.Log(h-c.From)
+			hi, lo := math.Max(l, t), math.Min(l, t)
+			l = hi + math.Log1p(math.Exp(lo-hi))
+		}
+	}
+	return l
+}
+
 // Discharge returns the rating's discharge at gauge height h (discharge
 // unit): 0 at or below the first control's offset, and above the last
 // breakpoint the last control carried on.

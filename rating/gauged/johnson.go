@@ -48,11 +48,40 @@ type JohnsonEstimate struct {
 	// OK reports that the estimate was made; Note says why not otherwise.
 	OK   bool
 	Note string
-	// ZeroFlow is the estimate e (gauge height, length unit).
-	ZeroFlow float64
+	// ZeroFlow is the estimate e (gauge height, length unit) and
+	// ZeroFlowSE its standard error, propagated from the standard errors
+	// of G1, G2 and G3 read from the curve (see JohnsonZeroFlowSE; NaN
+	// when not known).
+	ZeroFlow, ZeroFlowSE float64
+	// Undetermined reports an estimate whose 95 % uncertainty,
+	// CoverageFactor95·ZeroFlowSE, exceeds the difference from the
+	// fitted offset the check warns of (JohnsonCheckFraction of the
+	// first control's gauged depth): the stages G1 to G3 are too short a
+	// range for the method, the curve over them too nearly straight, and
+	// e is reported as not determined rather than checked. Note says so.
+	Undetermined bool
 	// Q1, Q2, Q3 are the three discharges (discharge unit), Q₂ = √(Q₁·Q₃),
 	// and G1, G2, G3 the gauge heights read for them (length unit).
 	Q1, Q2, Q3, G1, G2, G3 float64
+}
+
+// JohnsonZeroFlowSE returns the standard error of Johnson's e from the
+// standard errors s1, s2, s3 of the gauge heights G₁ < G₂ < G₃ read from
+// the curve, taken as independent. With D = G₁ + G₃ − 2·G₂,
+//
+//	∂e/∂G₁ = (G₃ − G₂)²/D²,   ∂e/∂G₂ = −2·(G₂ − G₁)(G₃ − G₂)/D²,   ∂e/∂G₃ = (G₂ − G₁)²/D²,
+//
+// (differentiating e = (G₁·G₃ − G₂²)/D), so e is the more sensitive the
+// nearer the curve is to straight over G₁ to G₃ (D → 0): a short range of
+// stage. NaN when the stages do not give an estimate (see
+// JohnsonZeroFlow).
+func JohnsonZeroFlowSE(g1, g2, g3, s1, s2, s3 float64) float64 {
+	if _, err := JohnsonZeroFlow(g1, g2, g3); err != nil {
+		return math.NaN()
+	}
+	d2 := math.Pow(g1+g3-2*g2, 2)
+	a, b, c := (g3-g2)*(g3-g2)/d2, -2*(g2-g1)*(g3-g2)/d2, (g2-g1)*(g2-g1)/d2
+	return math.Sqrt(a*a*s1*s1 + b*b*s2*s2 + c*c*s3*s3)
 }
 
 // johnsonMin is the fewest gaugings the curve of Johnson's method is
@@ -70,7 +99,7 @@ const johnsonLocalFraction = 1.0 / 3
 // quadratic of gauge height in ln Q through the gaugings nearest each in
 // ln Q (johnsonLocalFraction of them, at least johnsonMin).
 func johnsonFromData(d *data, top float64) JohnsonEstimate {
-	est := JohnsonEstimate{ZeroFlow: math.NaN(), Q1: math.NaN(), Q2: math.NaN(), Q3: math.NaN(), G1: math.NaN(), G2: math.NaN(), G3: math.NaN()}
+	est := JohnsonEstimate{ZeroFlow: math.NaN(), ZeroFlowSE: math.NaN(), Q1: math.NaN(), Q2: math.NaN(), Q3: math.NaN(), G1: math.NaN(), G2: math.NaN(), G3: math.NaN()}
 	var x, h, w []float64
 	for i := range d.h {
 		if d.h[i] < top {
@@ -91,14 +120,14 @@ func johnsonFromData(d *data, top float64) JohnsonEstimate {
 	}
 	k := max(johnsonMin, int(math.Ceil(johnsonLocalFraction*float64(len(x)))))
 	mid := 0.5 * (lo + hi)
-	var g [3]float64
+	var g, se [3]float64
 	for i, at := range []float64{lo, mid, hi} {
-		v, ok := localQuadratic(x, h, w, at, k)
+		v, sv, ok := localQuadratic(x, h, w, at, k)
 		if !ok {
 			est.Note = "the gaugings of the first control do not determine a curve"
 			return est
 		}
-		g[i] = v
+		g[i], se[i] = v, sv
 	}
 	est.Q1, est.Q2, est.Q3 = math.Exp(lo), math.Exp(mid), math.Exp(hi)
 	est.G1, est.G2, est.G3 = g[0], g[1], g[2]
@@ -108,12 +137,15 @@ func johnsonFromData(d *data, top float64) JohnsonEstimate {
 		return est
 	}
 	est.OK, est.ZeroFlow = true, e
+	est.ZeroFlowSE = JohnsonZeroFlowSE(g[0], g[1], g[2], se[0], se[1], se[2])
 	return est
 }
 
 // localQuadratic evaluates at x₀ the weighted least-squares quadratic of
-// v in x through the k points nearest x₀ in x.
-func localQuadratic(x, v, w []float64, x0 float64, k int) (float64, bool) {
+// v in x through the k points nearest x₀ in x, with the standard error of
+// that value from the points' scatter about the quadratic,
+// s²·[(AᵀWA)⁻¹]₀₀ with s² = Σwᵢrᵢ²/(k − 3) (NaN when k = 3).
+func localQuadratic(x, v, w []float64, x0 float64, k int) (val, se float64, ok bool) {
 	idx := make([]int, len(x))
 	for i := range idx {
 		idx[i] = i
@@ -133,7 +165,23 @@ func localQuadratic(x, v, w []float64, x0 float64, k int) (float64, bool) {
 	}
 	var c mat.VecDense
 	if err := c.SolveVec(a, b); err != nil {
-		return 0, false
+		return 0, 0, false
 	}
-	return c.AtVec(0), true
+	se = math.NaN()
+	if n > 3 {
+		var res mat.VecDense
+		res.MulVec(a, &c)
+		res.SubVec(b, &res)
+		s2 := mat.Dot(&res, &res) / float64(n-3)
+		var ata mat.SymDense
+		ata.SymOuterK(1, a.T())
+		var ch mat.Cholesky
+		if ch.Factorize(&ata) {
+			var inv mat.SymDense
+			if err := ch.InverseTo(&inv); err == nil {
+				se = math.Sqrt(s2 * inv.At(0, 0))
+			}
+		}
+	}
+	return c.AtVec(0), se, true
 }

@@ -80,6 +80,24 @@ type ControlOptions struct {
 // ErrControlOptions is returned for controls or breakpoints a fit cannot use.
 var ErrControlOptions = errors.New("controls must be 1 to 4, with breakpoints ascending, one fewer than the controls")
 
+// ErrRunawayExponent is returned by a least-squares fit in which a
+// control's exponent passes MaxFitExponent: see FitControls.
+var ErrRunawayExponent = errors.New("no power law of a control fits its gaugings")
+
+// MaxFitExponent is the largest exponent a least-squares fit gives the
+// first control or a replacing one (a project choice; an added control's
+// offset is its breakpoint and cannot run off). The closed forms of section and channel
+// controls give 3/2 to 8/3 (ExponentRange; Chow 1959), and the widest
+// range warned against ends at 3: an exponent above 10, more than three
+// times that, is not a control's. Least squares reaches it only as a
+// replacing control's offset runs off below its breakpoint, B → −∞ with
+// C/(κ − B) held, the limit in which (h − B)^C becomes an exponential in
+// stage: its gaugings rise faster from the discharge the control below
+// gives at the breakpoint than any power law can. Its search then stops
+// only where A = Q(κ)/(κ − B)^C underflows, at an exponent of 100 or
+// more set by the arithmetic rather than by the gaugings.
+const MaxFitExponent = 10.0
+
 // ErrNoStart is returned when the controls asked for can make no rating
 // through the gaugings: a replacing control whose gaugings lie below the
 // discharge the control under it gives at its breakpoint, say.
@@ -157,7 +175,9 @@ type ControlFit struct {
 	// order, those left out marked Excluded with their reason.
 	Residuals []Residual
 	// Tests are the ISO 1100-2 tests of the relation on the fitted
-	// gaugings' departures ln Q − ln Q_rating, in order of stage.
+	// gaugings' departures ln Q − ln Q_rating, in order of stage, the
+	// mean departure weighted as the fit weights the gaugings
+	// (WeightedRelationChecks).
 	Tests RelationTests
 	// Johnson is Johnson's three-point estimate of the first offset, a
 	// check on the fitted one.
@@ -168,6 +188,10 @@ type ControlFit struct {
 	// warning: ExponentRange of its kind, or for a Bayesian fit with a
 	// prior from the survey that range widened to the section's own.
 	Exponents []ExponentBounds
+	// NoStandardErrors says why a least-squares fit gives no standard
+	// errors of its parameters ("" when it gives them): the delta method's
+	// matrix JᵀWJ is singular, or the gaugings lie on the rating exactly.
+	NoStandardErrors string
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 
@@ -234,7 +258,9 @@ type lsqProblem struct {
 // MinPerSegment gaugings: it names each such control, its stages and the
 // gaugings it holds), ErrGauging, ErrBelowZero (a gauging at or below a
 // fixed offset), ErrFewGaugings, ErrNoStart (naming the control that
-// cannot start).
+// cannot start), ErrRunawayExponent (a control whose exponent passes
+// MaxFitExponent at the best solution: its offset runs off below, and the
+// error names it, its gaugings and where the search stopped).
 //
 // References:
 //
@@ -257,6 +283,9 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	x, ssr, err := p.solveFrom(starts)
 	if err != nil {
 		return nil, err
+	}
+	if j := p.runaway(x); j >= 0 {
+		return nil, p.runawayError(j, x)
 	}
 	f := &ControlFit{Method: LeastSquares, Units: opt.Units, OffsetFixed: opt.OffsetFixed, BreaksFixed: opt.Breaks != nil,
 		m: p.m, d: p.d, x: x, scale: p.scale, Warnings: warn}
@@ -431,19 +460,21 @@ func (p *lsqProblem) residuals(x []float64) []float64 {
 }
 
 // solveFrom finds the least-squares parameters from starts (full vectors,
-// at least one).
+// at least one): the best result whose exponents are all at most
+// MaxFitExponent, else the best of all.
 func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
 	obj := func(x []float64) float64 { return sumSq(p.residuals(x)) }
 	var best []float64
-	bestF := math.Inf(1)
+	bestF, bestRun := math.Inf(1), true
 	for _, full := range starts {
 		x := p.m.freeOf(full)
 		x, _ = nelderMead(obj, x, p.scale)
 		x, _ = levenberg(p.residuals, x, p.scale)
 		x, _ = nelderMead(obj, x, p.scale)
 		x, f := levenberg(p.residuals, x, p.scale)
-		if f < bestF {
-			best, bestF = x, f
+		run := p.runaway(x) >= 0
+		if (bestRun && !run) || (run == bestRun && f < bestF) {
+			best, bestF, bestRun = x, f, run
 		}
 	}
 	if best == nil || math.IsInf(bestF, 1) {
@@ -451,6 +482,59 @@ func (p *lsqProblem) solveFrom(starts [][]float64) ([]float64, float64, error) {
 	}
 	return best, bestF, nil
 }
+
+// runaway returns the index of the first control whose exponent at free
+// parameters x is above MaxFitExponent, or −1. Added controls, whose
+// offset is their breakpoint and cannot run off, are passed over.
+func (p *lsqProblem) runaway(x []float64) int {
+	full := p.m.full(x)
+	for j := 0; j < p.m.k(); j++ {
+		if (j == 0 || p.m.joints[j] == Replace) && full[p.m.iC(j)] > MaxFitExponent {
+			return j
+		}
+	}
+	return -1
+}
+
+// runawayError is FitControls's error for control j (from 0) of rating r
+// whose exponent ran past MaxFitExponent: it names the control, its
+// stages and gaugings, the exponent and offset the search reached and
+// the discharge it takes over from, and wraps ErrRunawayExponent.
+func (p *lsqProblem) runawayError(j int, x []float64) error {
+	r, _ := p.m.rating(p.m.full(x))
+	c := r.Controls[j]
+	lo, hi := math.Inf(-1), math.Inf(1)
+	if j > 0 {
+		lo = c.From
+	}
+	if j+1 < len(r.Controls) {
+		hi = r.Controls[j+1].From
+	}
+	hs, _, _ := p.d.slice(lo, hi)
+	L, Q := p.opt.Units.Length(), p.opt.Units.Discharge()
+	held := ""
+	if len(hs) > 0 {
+		held = sayf(", %s from %s to %s %s", rating.Counted(len(hs), "gauging", "gaugings"), gh(hs[0]), gh(hs[len(hs)-1]), L)
+	}
+	endless := ""
+	if math.Log(c.A) < runawayLogA {
+		endless = " (the exponent rises without end: the search stops only where A = Q/(h − B)^C underflows)"
+	}
+	what := sayf("control %d%s", j+1, held)
+	rises := "its gaugings rise"
+	if j > 0 {
+		what = sayf("control %d (from %s %s%s)", j+1, gh(c.From), L, held)
+		rises = sayf("from the %s %s that control %d gives at %s %s, its gaugings rise", rating.PlainFigures(r.upTo(j-1, c.From), 4), Q, j, gh(c.From), L)
+	}
+	return errorf("%w: %s: its least-squares exponent is %s, above %s, more than any control's, with its offset at %s %s, %s %s below where it starts%s; "+
+		"%s nearly as an exponential in stage, not as a control's power law (h − B)^C: move the breakpoint, fit fewer controls, or fit by --method bayes, whose prior holds the exponent",
+		ErrRunawayExponent, what, rating.PlainFigures(c.C, 3), rating.PlainFigures(MaxFitExponent, 3), rating.PlainFigures(c.B, 4), L,
+		rating.PlainFigures(c.From-c.B, 3), L, endless, rises)
+}
+
+// runawayLogA is the ln A below which a control's coefficient is taken to
+// be near the end of the numbers (the smallest normal float is e^−708).
+const runawayLogA = -600
 
 // lsqStart is a start of the search and its sum of squares.
 type lsqStart struct {
@@ -629,8 +713,8 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 		}
 		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
 		if _, ok := p.m.ratingUpTo(full, j); !ok {
-			return nil, errorf("%w: control %d, from gauge height %g, would need an exponent of %.3g to join control %d there and pass through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
-				ErrNoStart, j+1, br[j-1], c, j, len(hs), hs[0], hs[len(hs)-1])
+			return nil, errorf("%w: control %d, from gauge height %g, makes no rating joined to control %d there (coefficient %.3g, exponent %.3g) through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
+				ErrNoStart, j+1, br[j-1], j, math.Exp(lnA), c, len(hs), hs[0], hs[len(hs)-1])
 		}
 	}
 	return full, nil
@@ -698,7 +782,8 @@ func powerFit(h, y, w []float64, b float64) (lnA, c, ssr float64, ok bool) {
 
 // replaceStart fits a replacing control through q0 at breakpoint kappa to
 // gaugings above it: ln Q = ln q0 + C·ln((h − b)/(κ − b)), C by weighted
-// least squares through the origin and b by a profile below κ.
+// least squares through the origin and b by a profile below κ, over the
+// trial offsets whose C is at most MaxFitExponent.
 func replaceStart(q0, kappa float64, h, y, w []float64, span float64) (lnA, c float64, ok bool) {
 	best := math.Inf(1)
 	l0 := math.Log(q0)
@@ -714,7 +799,7 @@ func replaceStart(q0, kappa float64, h, y, w []float64, span float64) (lnA, c fl
 			continue
 		}
 		cc := sxy / sxx
-		if !(cc > 0) {
+		if !(cc > 0) || cc > MaxFitExponent {
 			continue
 		}
 		var ssr float64
@@ -792,8 +877,12 @@ func (f *ControlFit) finishLSQ(ssr float64) {
 			}
 		}
 	}
-	if f.cov == nil && s2 > 0 {
+	switch {
+	case f.cov == nil && s2 > 0:
+		f.NoStandardErrors = "the gaugings do not determine every parameter (the matrix JᵀWJ of the delta method is singular)"
 		f.Warnings = append(f.Warnings, "the parameters are not all determined by the gaugings: standard errors and bands are not available")
+	case f.cov == nil:
+		f.NoStandardErrors = "the gaugings lie on the rating exactly (no scatter to measure)"
 	}
 	f.Controls = f.controlsWithSE(func(g []float64) float64 {
 		if f.cov == nil {
@@ -879,7 +968,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	for i, h := range d.h {
 		dep[i] = d.y[i] - logQ(f.Rating, h)
 	}
-	f.Tests = RelationChecks(dep)
+	f.Tests = WeightedRelationChecks(dep, d.w)
 	for _, t := range []RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		if t.Failed {
 			f.Warnings = append(f.Warnings, sayf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))
@@ -892,7 +981,16 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	f.Johnson = johnsonFromData(d, top)
 	if b := f.Rating.Controls[0].B; f.Johnson.OK {
 		depth := math.Min(top, d.hi) - b
-		if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
+		j := &f.Johnson
+		if u := CoverageFactor95 * j.ZeroFlowSE; !(u <= JohnsonCheckFraction*depth) {
+			j.Undetermined = true
+			j.Note = sayf("not determined: e = %s ± %s %s (95 %%) from gauge heights %s to %s %s, over which the curve is nearly straight "+
+				"(G₁ + G₃ − 2·G₂ = %s %s): the range is too short for the method, its uncertainty more than the %s %s "+
+				"(%.0f %% of the first control's gauged depth) by which the check would tell the offset wrong",
+				rating.PlainFigures(j.ZeroFlow, 3), rating.PlainFigures(u, 2), f.Units.Length(), gh(j.G1), gh(j.G3), f.Units.Length(),
+				rating.PlainFigures(j.G1+j.G3-2*j.G2, 2), f.Units.Length(), rating.PlainFigures(JohnsonCheckFraction*depth, 2), f.Units.Length(),
+				100*JohnsonCheckFraction)
+		} else if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
 			f.Warnings = append(f.Warnings, sayf(
 				"Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
 				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))

@@ -39,6 +39,9 @@ type BreakStep struct {
 // nearly A at once: the rating then rises by a factor within a fraction of
 // a millimetre, a step no channel makes. A continuous rating changes over
 // StepProbe by its slope only (0.02 % for Q ∝ (h − B)² with h − B = 1 m).
+// Both discharges are compared in logarithms, ln A + C·ln(h − B), so
+// that a control of large exponent whose power (h − B)^C overflows just
+// above its range is not taken for a step.
 func (f *ControlFit) BreakSteps() []BreakStep {
 	r, d := f.Rating, f.d
 	var out []BreakStep
@@ -47,14 +50,15 @@ func (f *ControlFit) BreakSteps() []BreakStep {
 	}
 	for k := 1; k < len(r.Controls); k++ {
 		kappa := r.Controls[k].From
-		above := r.Discharge(kappa + StepProbe)
-		carried := r.upTo(k-1, kappa+StepProbe)
-		if !(carried > 0) || !(above > 0) {
+		lnAbove := r.logUpTo(k, kappa+StepProbe)
+		lnCarried := r.logUpTo(k-1, kappa+StepProbe)
+		if !finite(lnAbove) || !finite(lnCarried) {
 			continue
 		}
-		s := BreakStep{Control: k + 1, Stage: kappa, Below: r.upTo(k-1, kappa), Above: above, Carried: carried, Ratio: above / carried}
+		s := BreakStep{Control: k + 1, Stage: kappa, Below: r.upTo(k-1, kappa), Above: math.Exp(lnAbove), Carried: math.Exp(lnCarried),
+			Ratio: math.Exp(lnAbove - lnCarried)}
 		s.Limit = nearSigma(d, kappa)
-		if math.Abs(math.Log(s.Ratio)) > math.Log1p(s.Limit) {
+		if math.Abs(lnAbove-lnCarried) > math.Log1p(s.Limit) {
 			out = append(out, s)
 		}
 	}
@@ -76,26 +80,32 @@ func nearSigma(d *data, h float64) float64 {
 	return CoverageFactor95 * u
 }
 
-// stepWarnings words each step of BreakSteps for the fit's warnings.
+// stepWarnings words each step of BreakSteps for the fit's warnings,
+// from its cause: a replacing control whose offset lies so near its
+// breakpoint that over StepProbe its depth h − B grows by a large factor
+// (raised to its exponent), or an added control that adds nearly its
+// coefficient at once.
 func (f *ControlFit) stepWarnings() []string {
 	var out []string
 	L, Q := f.Units.Length(), f.Units.Discharge()
 	for _, s := range f.BreakSteps() {
 		c := f.Rating.Controls[s.Control-1]
-		how := sayf("control %d replaces control %d with exponent %s and its offset %s %s below the breakpoint",
-			s.Control, s.Control-1, rating.PlainFigures(c.C, 3), rating.PlainFigures(s.Stage-c.B, 2), L)
-		if s.Stage-c.B < StepProbe {
-			how = sayf("control %d replaces control %d with exponent %s and its offset within %s %s below the breakpoint",
-				s.Control, s.Control-1, rating.PlainFigures(c.C, 3), gh(StepProbe), L)
-		}
+		depth := s.Stage - c.B
+		grow := (depth + StepProbe) / depth
+		how := sayf("control %d takes over from control %d as %s·(h − B)^%s with its offset B %s %s below the breakpoint, "+
+			"so over those %s %s its depth h − B grows ×%s and its discharge ×%s",
+			s.Control, s.Control-1, rating.PlainFigures(c.A, 4), rating.PlainFigures(c.C, 3), rating.PlainFigures(depth, 2), L,
+			gh(StepProbe), L, rating.PlainFigures(grow, 3), rating.PlainFigures(math.Pow(grow, c.C), 3))
 		if c.Joint == Add {
-			how = sayf("control %d adds %s·(h − %s)^%s to the controls below", s.Control, rating.PlainFigures(c.A, 4), gh(s.Stage), rating.PlainFigures(c.C, 3))
+			how = sayf("control %d adds %s·(h − %s)^%s to the controls below, %s %s within those %s %s",
+				s.Control, rating.PlainFigures(c.A, 4), gh(s.Stage), rating.PlainFigures(c.C, 3),
+				rating.PlainFigures(s.Above-s.Carried, 4), Q, gh(StepProbe), L)
 		}
-		out = append(out, sayf("the rating steps at the breakpoint %s %s: from %s %s at it to %s %s %s %s above it (×%s), "+
-			"more than the %s %% uncertainty (95 %%) of the gaugings either side: %s, so the rating is continuous there in form only; "+
-			"a rating that steps is not one to use: move or drop the breakpoint, or fit fewer controls",
-			gh(s.Stage), L, rating.PlainFigures(s.Below, 4), Q, rating.PlainFigures(s.Above, 4), Q, gh(StepProbe), L,
-			rating.PlainFigures(s.Ratio, 2), rating.PlainFigures(100*s.Limit, 2), how))
+		out = append(out, sayf("the rating steps at the breakpoint %s %s: %s %s above it, it gives %s %s where the controls below, carried on, give %s %s (×%s), "+
+			"more than the %s %% uncertainty (95 %%) of the gaugings either side: %s; the rating is continuous there in form only, "+
+			"and one that steps is not one to use: move or drop the breakpoint, or fit fewer controls",
+			gh(s.Stage), L, gh(StepProbe), L, rating.PlainFigures(s.Above, 4), Q, rating.PlainFigures(s.Carried, 4), Q,
+			rating.PlainFigures(s.Ratio, 3), rating.PlainFigures(100*s.Limit, 2), how))
 	}
 	return out
 }

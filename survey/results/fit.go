@@ -245,6 +245,10 @@ type jsonJohnson struct {
 	G2            Float  `json:"g2"`
 	G3            Float  `json:"g3"`
 	Note          string `json:"note"`
+	// StandardError is the standard error of zero_flow_stage and
+	// Determined whether it is small enough for the check (appended keys).
+	StandardError Float `json:"standard_error"`
+	Determined    bool  `json:"determined"`
 }
 
 type jsonMore struct {
@@ -425,7 +429,8 @@ func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 	test := func(t gauged.RelationTest) jsonTest { return jsonTest{t.N, Float(t.Statistic), Float(t.P), t.Failed} }
 	out.Tests = &jsonTests{Float(gauged.RelationTestLevel), test(f.Tests.Sign), test(f.Tests.Runs), test(f.Tests.Mean)}
 	j := f.Johnson
-	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note}
+	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
+		Float(j.ZeroFlowSE), j.OK && !j.Undetermined}
 	if p := f.Posterior; p != nil {
 		jp := &jsonPosterior{Parameters: []jsonParam{}, RHatMax: Float(p.RHatMax), RHatParameter: p.RHatParam, ESSMin: Float(p.ESSMin),
 			ESSParameter: p.ESSParam, Acceptance: Float(p.Acceptance), Converged: p.Converged, RHatLimit: Float(gauged.RHatLimit),
@@ -554,7 +559,11 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	case r.Hydraulic != nil:
 		p("Gauge datum: none given, so gauge heights are read as the survey's elevations; hydraulic rating%s at slope %s\n", ofSection(r), sig(r.Slope, shortest))
 	case r.HydraulicTable != nil:
-		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights)\n", r.HydraulicSource)
+		how := "linearly in stage between rows"
+		if e, ok := r.HydraulicTable.ZeroFlow(); ok {
+			how = fmt.Sprintf("log-linearly in (h − e) between rows, e = %s %s", rating.PlainFigures(e, 6), L)
+		}
+		p("Gauge datum: stages are gauge heights; hydraulic rating from the %s (read at gauge heights, %s)\n", r.HydraulicSource, how)
 	default:
 		p("Gauge datum: stages are gauge heights as read; no section given, so no hydraulic rating\n")
 	}
@@ -603,7 +612,7 @@ type printer func(format string, a ...any)
 func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L, Q := r.Units.Length(), r.Units.Discharge()
 	p("\nFitted rating: %s, each Q = A·(h − B)^C with its own offset B (h gauge height in %s, Q in %s), %s, %s\n",
-		rating.Counted(len(f.Controls), "control", "controls"), L, Q, rating.Counted(f.N, "gauging", "gaugings"), rating.Counted(f.Params, "parameter", "parameters"))
+		rating.Counted(len(f.Controls), "control", "controls"), L, Q, rating.Counted(f.N, "gauging", "gaugings"), parameterWords(f))
 	p("  method: %s\n", methodWords(f))
 	what := "±: standard errors"
 	if f.Method == gauged.Bayesian {
@@ -619,12 +628,8 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		case j > 0:
 			join = ", replaces the one below"
 		}
-		b := fmt.Sprintf("%.4f ± %s %s", c.B, sig(c.BSE, 2), L)
-		if math.IsNaN(c.BSE) {
-			b = fmt.Sprintf("%.4f %s (held)", c.B, L)
-		}
-		p("  control %d (%s%s), %s: A = %s ± %s, B = %s, C = %.4f ± %s (exponents %s to %s expected)\n",
-			j+1, c.Kind, join, segmentStages(f, j, L), sig(c.A, 5), sig(c.ASE, 2), b, c.C, sig(c.CSE, 2), sig(lo, 3), sig(hi, 3))
+		p("  control %d (%s%s), %s: A = %s, B = %s, C = %s (exponents %s to %s expected)\n",
+			j+1, c.Kind, join, segmentStages(f, j, L), withSE(sig(c.A, 5), c.ASE, "", f), offsetWords(f, j, L), withSE(fmt.Sprintf("%.4f", c.C), c.CSE, "", f), sig(lo, 3), sig(hi, 3))
 		if j > 0 {
 			if f.BreaksFixed || math.IsNaN(c.FromSE) {
 				p("    breakpoint %.4f %s%s\n", c.From, L, map[bool]string{true: " (given)", false: " (no standard error)"}[f.BreaksFixed])
@@ -643,6 +648,9 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	if f.OffsetFixed {
 		p("  first offset held at %.4f %s (%s)\n", f.Controls[0].B, L, f.OffsetSource)
 	}
+	if f.NoStandardErrors != "" {
+		p("  no standard errors: %s\n", f.NoStandardErrors)
+	}
 	p("  %s\n", standardErrorWords(f))
 	if m := r.MoreControls; m.Made {
 		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
@@ -654,6 +662,56 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		}
 		p("\n")
 	}
+}
+
+// parameterWords counts the parameters a fit moved, saying which are the
+// rating's when a Bayesian fit's remnant error is one of them: the
+// degrees of freedom of the standard error of estimate are the gaugings
+// less the rating's alone.
+func parameterWords(f *gauged.ControlFit) string {
+	all := rating.Counted(f.Params, "parameter", "parameters")
+	if own := f.N - f.StandardErrorDF; f.Method == gauged.Bayesian && own == f.Params-1 {
+		return fmt.Sprintf("%s (%d of the rating and the remnant error)", all, own)
+	}
+	return all
+}
+
+// withSE writes a fitted value v with its standard error se ("± se"), or
+// v alone when the fit gives no standard errors (ControlFit.NoStandardErrors,
+// said once below the controls). unit follows the standard error.
+func withSE(v string, se float64, unit string, f *gauged.ControlFit) string {
+	if unit != "" {
+		unit = " " + unit
+	}
+	if f.NoStandardErrors != "" {
+		return v + unit
+	}
+	return fmt.Sprintf("%s ± %s%s", v, sig(se, 2), unit)
+}
+
+// offsetWords writes control j's offset B with what it is: held at a
+// given value (the first control, --zero-flow), its breakpoint (an added
+// control), fitted (the first) or set by continuity at the breakpoint (a
+// replacing control), with its standard error where the fit gives one
+// (then alone, as the other parameters are).
+func offsetWords(f *gauged.ControlFit, j int, L string) string {
+	c := f.Controls[j]
+	b := fmt.Sprintf("%.4f", c.B)
+	switch {
+	case j == 0 && f.OffsetFixed:
+		return b + " " + L + " (held)"
+	case j > 0 && c.Joint == gauged.Add && (f.NoStandardErrors != "" || math.IsNaN(c.BSE)):
+		return b + " " + L + " (its breakpoint)"
+	case f.NoStandardErrors != "" && j == 0:
+		return b + " " + L + " (fitted)"
+	case f.NoStandardErrors != "":
+		return b + " " + L + " (by continuity at its breakpoint)"
+	case math.IsNaN(c.BSE) && j == 0:
+		return b + " " + L + " (fitted, no standard error)"
+	case math.IsNaN(c.BSE):
+		return b + " " + L + " (by continuity at its breakpoint, no standard error)"
+	}
+	return fmt.Sprintf("%s ± %s %s", b, sig(c.BSE, 2), L)
 }
 
 // ofSection names a report's section for "hydraulic rating …" ("" when
@@ -702,8 +760,9 @@ func writePosterior(p printer, post *gauged.Posterior) {
 // writeFitChecks writes the ISO tests and Johnson's check.
 func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L := r.Units.Length()
-	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; failed below p = %s):\n", sig(gauged.RelationTestLevel, shortest))
-	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; the mean departure weighted 1/σ², as the fit weights the gaugings; failed below p = %s):\n",
+		sig(gauged.RelationTestLevel, shortest))
+	for i, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		verdict := "passes"
 		if t.Failed {
 			verdict = "FAILS"
@@ -711,14 +770,29 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(t.P) {
 			verdict = "not made"
 		}
-		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
+		stat := sig(t.Statistic, 4)
+		if i == 2 {
+			stat = fixed(t.Statistic, 3) // Student's t; a least-squares fit's is zero to its tolerance
+		}
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, stat, sig(t.P, 3), verdict)
 	}
-	if j := f.Johnson; j.OK {
+	if j := f.Johnson; j.OK && j.Undetermined {
+		p("Johnson's three-point check of the first offset: %s; fitted B = %.4f %s\n", j.Note, f.Controls[0].B, L)
+	} else if j.OK {
 		p("Johnson's three-point check of the first offset: e = %.4f %s (gauge heights %.3f, %.3f, %.3f %s of %s, %s, %s %s); fitted B = %.4f %s\n",
-			j.ZeroFlow, L, j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
+			j.ZeroFlow, johnsonPlusMinus(j, L), j.G1, j.G2, j.G3, L, sig(j.Q1, 4), sig(j.Q2, 4), sig(j.Q3, 4), r.Units.Discharge(), f.Controls[0].B, L)
 	} else {
 		p("Johnson's three-point check of the first offset: not made (%s)\n", j.Note)
 	}
+}
+
+// johnsonPlusMinus writes the unit L of Johnson's estimate after its 95 %
+// uncertainty ("± U L (95 %)"), or L alone when that is not known.
+func johnsonPlusMinus(j gauged.JohnsonEstimate, L string) string {
+	if math.IsNaN(j.ZeroFlowSE) {
+		return L
+	}
+	return "± " + sig(gauged.CoverageFactor95*j.ZeroFlowSE, 2) + " " + L + " (95 %)"
 }
 
 // writeGaugingRows writes every gauging with its departures.

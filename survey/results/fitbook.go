@@ -242,7 +242,9 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 			rating.Counted(p.Pilot, "pilot iteration", "pilot iterations"), p.Seed, rating.Counted(p.Modes, "local mode", "local modes")), "")
 		add("likelihood", p.Likelihood, "")
 	}
-	if j := f.Johnson; j.OK {
+	if j := f.Johnson; j.OK && j.Undetermined {
+		add("Johnson's three-point zero-flow stage", j.Note, "")
+	} else if j.OK {
 		add("Johnson's three-point zero-flow stage", num("0.0000", j.ZeroFlow), L)
 	} else {
 		add("Johnson's three-point zero-flow stage", "not made: "+j.Note, "")

@@ -55,6 +55,14 @@ func TestFitLabels(t *testing.T) {
 			items:   map[string]string{"degrees of freedom of the standard error of estimate": "9|"},
 		},
 		{
+			// A Bayesian fit moves the remnant error too: 4 parameters
+			// beside 14 − 3 = 11 degrees of freedom, which the count says.
+			name: "Bayesian, parameters beside degrees of freedom", gs: many,
+			opt:     gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
+			text:    []string{"14 gaugings, 4 parameters (3 of the rating and the remnant error)", " in ln Q, 11 degrees of freedom)"},
+			summary: "(11 degrees of freedom)",
+		},
+		{
 			name: "least squares, two gaugings left out", gs: selected,
 			text:    []string{" in ln Q, 9 degrees of freedom)"},
 			summary: "wrote out: 12 gaugings fitted of 14 read;",
@@ -64,8 +72,9 @@ func TestFitLabels(t *testing.T) {
 			// Three gaugings for the three parameters of one control
 			// (A, B, C; the remnant error is no parameter of the rating).
 			name: "Bayesian, as many gaugings as parameters", gs: labelGaugings([]float64{0.6, 1.2, 2.0}),
-			opt:     gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
-			text:    []string{"weighted standard error of estimate not defined: 3 gaugings for 3 parameters of the rating, the remnant error aside"},
+			opt: gauged.Options{Method: gauged.Bayesian, Bayes: gauged.BayesOptions{Chains: 2, Draws: 200, Seed: 1}},
+			text: []string{"weighted standard error of estimate not defined: 3 gaugings for 3 parameters of the rating, the remnant error aside",
+				"3 gaugings, 4 parameters (3 of the rating and the remnant error)"},
 			not:     []string{"- % (- in ln Q)"},
 			summary: "weighted standard error not defined (3 gaugings for 3 parameters of the rating)",
 			items: map[string]string{"weighted standard error of estimate": "not defined: 3 gaugings for 3 parameters of the rating, " +
@@ -160,5 +169,53 @@ func TestFitNamesSectionAsSection(t *testing.T) {
 	items := summaryItems(t, openWritten(t, &book))
 	if items["site"] != "brook-gaugings|" || items["section"] != "brook-xs|" {
 		t.Errorf("workbook site %q, section %q", items["site"], items["section"])
+	}
+}
+
+// A least-squares fit whose gaugings do not determine every parameter
+// (the delta method's JᵀWJ singular, as the trial's Patuxent fit with
+// breakpoints 7,12 ft was before its runaway exponent was refused) has
+// no standard errors: the text says each offset is fitted, or set by
+// continuity at its breakpoint, and says once why no standard errors are
+// given, instead of "(held)" beside a fitted offset and "± -" beside
+// every value. An offset held by --zero-flow is still "(held)".
+func TestFitTextSaysFittedWithoutStandardErrors(t *testing.T) {
+	gs := labelGaugings([]float64{0.5, 0.6, 0.7, 0.8, 0.9, 1.0, 1.2, 1.4, 1.6, 1.8, 2.0, 2.2, 2.4, 2.6})
+	for _, tc := range []struct {
+		name      string
+		opt       gauged.ControlOptions
+		text, not []string
+	}{
+		{"fitted offset", gauged.ControlOptions{Breaks: []float64{1.5}},
+			[]string{"B = 0.3", " m (fitted), C = ", " m (by continuity at its breakpoint), C = ", "  no standard errors: the gaugings do not determine every parameter"},
+			[]string{"(held)", "± -", "± NaN"}},
+		{"held offset", gauged.ControlOptions{Breaks: []float64{1.5}, OffsetFixed: true, Offset: 0.3},
+			[]string{"B = 0.3000 m (held), C = ", " m (by continuity at its breakpoint), C = "},
+			[]string{"(fitted)", "± -"}},
+	} {
+		rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI, Method: gauged.LeastSquares, Controls: tc.opt})
+		if err != nil {
+			t.Fatal(err)
+		}
+		f := rep.Fit
+		f.NoStandardErrors = "the gaugings do not determine every parameter (the matrix JᵀWJ of the delta method is singular)"
+		for j := range f.Controls {
+			c := &f.Controls[j]
+			c.ASE, c.BSE, c.CSE, c.FromSE = math.NaN(), math.NaN(), math.NaN(), math.NaN()
+		}
+		var text bytes.Buffer
+		if err := results.WriteFitText(&text, rep); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range tc.text {
+			if !strings.Contains(text.String(), w) {
+				t.Errorf("%s: text lacks %q", tc.name, w)
+			}
+		}
+		for _, w := range tc.not {
+			if strings.Contains(text.String(), w) {
+				t.Errorf("%s: text has %q", tc.name, w)
+			}
+		}
 	}
 }
