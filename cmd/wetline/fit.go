@@ -140,7 +140,7 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteFitSummary(w, rep, f.output) }})
 }
 
@@ -168,13 +168,17 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	}
 	var table *gauged.TableRating
 	var tableWarnings []string
+	var tableNote string
 	if f.hydraulicTable != "" {
-		if table, tableWarnings, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, &d); err != nil {
+		if table, tableWarnings, tableNote, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, &d); err != nil {
 			return nil, err
 		}
 	}
 	opt.Units = d.Units
 	in := fitInputs{inputs: []string{path}, warnings: append([]string(nil), gs.Warnings...), site: gs.Site}
+	if tableNote != "" {
+		in.notes = append(in.notes, tableNote)
+	}
 	ropt := rating.Options{Slope: f.slope, Units: d.Units, Geometry: f.geometry()}
 	if f.section != "" {
 		p, err := f.prepareIn(f.section, &d)
@@ -244,25 +248,27 @@ func (in *fitInputs) addSection(p *survey.Prepared) {
 // readHydraulicTable reads a hydraulic rating table at gauge heights
 // (stage − datum): one rating, interpolated log-linearly in the stage
 // above its dry foot when it has one (survey.DryFoot). The units of its
-// headers must be those decided, or decide them (see unitsDecided.take).
-func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) (*gauged.TableRating, []string, error) {
+// headers must be those decided, or decide them (see
+// unitsDecided.takeTable, which gives the input note returned).
+func readHydraulicTable(path, sheet string, datum float64, units *unitsDecided) (*gauged.TableRating, []string, string, error) {
 	rt, err := survey.ReadRatingTables(path, survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true})
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, "", err
 	}
-	if err := units.take(rt.Units, path); err != nil {
-		return nil, nil, err
+	note, err := units.takeTable(rt.Units, path)
+	if err != nil {
+		return nil, nil, "", err
 	}
 	if len(rt.Periods) != 1 || rt.Periods[0].Rating == nil {
-		return nil, nil, fmt.Errorf("%s: a hydraulic rating is one table, not %d rating periods", path, len(rt.Periods))
+		return nil, nil, "", fmt.Errorf("%s: a hydraulic rating is one table, not %d rating periods", path, len(rt.Periods))
 	}
 	tab := *rt.Periods[0].Rating
 	tab.HasHighGauging = false
 	c, err := tab.Compile()
 	if err != nil {
-		return nil, nil, fmt.Errorf("%s: %w", path, err)
+		return nil, nil, "", fmt.Errorf("%s: %w", path, err)
 	}
-	return c, rt.Warnings, nil
+	return c, rt.Warnings, note, nil
 }
 
 // options checks the flags against each other and turns them into report
