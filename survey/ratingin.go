@@ -6,12 +6,14 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/rating/reach"
 )
 
 // ReadRatingCSV reads back a rating table written by WriteRatingCSV, from
@@ -49,6 +51,15 @@ var ErrRatingPeriods = errors.New("one rating per file is read; give each period
 // columns (basis or extrapolated).
 const KindFitted = "fitted rating"
 
+// KindBackwater is the Kind of a rating table whose flags column carries
+// a step-backwater run's own flags (reach.FlagUnsettled,
+// reach.FlagCriticalStage), as backwater writes its rating.
+const KindBackwater = rating.KindBackwater
+
+// ColRatingFlags is the column of a rating table's row flags, words
+// separated by spaces (rating.FlagAboveEnd, reach.FlagUnsettled, ...).
+const ColRatingFlags = "flags"
+
 // Tolerances of the friction slope read from a rating table. Its values
 // are written to six significant digits, so Q/K is good to about 1e-5 and
 // (Q/K)² to slopeRoundingTol; rows whose slopes spread by no more than
@@ -78,9 +89,11 @@ const (
 // lowest stage; Top is the highest stage. Slope is the friction slope
 // (Q/K)² when at least two rows with flow and conveyance give the same one
 // (a uniform-flow table by Manning's equation, as rate writes), as the
-// shortest decimal within the table's rounding; else NaN. Kind is
-// KindFitted for a table with a rating fit's columns, else "". Every bad
-// cell is reported, each naming its row and column.
+// shortest decimal within the table's rounding; else NaN. Each row's
+// flags are the words of its flags column. Kind is KindFitted for a table
+// with a rating fit's columns, KindBackwater for one whose flags include
+// a step-backwater run's, else "". Every bad cell is reported, each
+// naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
@@ -93,6 +106,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	for _, name := range ratingRowColumns() {
 		read = append(read, t.Column(name))
 	}
+	read = append(read, t.Column(ColRatingFlags))
 	if err := t.unsavedIn(read...); err != nil {
 		return out, err
 	}
@@ -185,6 +199,7 @@ func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
 		Conveyance: opt("conveyance"), MeanVelocity: opt("mean_velocity"),
 		Alpha: opt("alpha"), Froude: opt("froude"), HydraulicDepth: opt("hydraulic_depth"),
 		Beta: opt("beta"), ShearStress: opt("shear_stress"),
+		Flags: strings.Fields(c.t.Cell(rec, c.t.Column(ColRatingFlags))),
 	}
 }
 
@@ -197,8 +212,13 @@ func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth b
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: ErrEmpty}
 	}
 	out.Slope = uniformSlope(out.Rows)
-	if t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0 {
+	switch {
+	case t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0:
 		out.Kind = KindFitted
+	case slices.ContainsFunc(out.Rows, func(r rating.Row) bool {
+		return slices.Contains(r.Flags, reach.FlagUnsettled) || slices.Contains(r.Flags, reach.FlagCriticalStage)
+	}):
+		out.Kind = KindBackwater
 	}
 	if !bottomFromDepth {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",

@@ -103,6 +103,9 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	inputs := []string{path}
 	warnings := append([]string(nil), t.Warnings...)
+	if n := plotting.FlagNote(plotting.FlagMarks(t), t.Units); n != "" {
+		warnings = append(warnings, survey.Position(path, tableSheet)+": "+n)
+	}
 	in := plotting.RatingFigures{Site: f.site, Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if p != nil {
