@@ -164,8 +164,8 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 }
 
 // ratingColumns finds a rating table's stage and discharge columns and
-// its unit system: the units its headers name (stage, discharge and the
-// geometry columns), which must agree with choice.
+// its unit system: the units its headers name (RatingUnits), which must
+// agree with choice.
 func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units, err error) {
 	if cs, err = t.Require(ColRatingStage, ColGaugeHeight); err != nil {
 		return
@@ -173,12 +173,66 @@ func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units,
 	if cq, err = t.Require("discharge"); err != nil {
 		return
 	}
-	note, err := t.HeaderUnits(cs, cq, t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+	note, err := RatingUnits(t)
 	if err != nil {
 		return
 	}
 	units, err = note.Resolve(choice.Units, choice.Given)
 	return
+}
+
+// RatingUnits is what the headers of a rating table's stage, discharge
+// and geometry columns (depth, area, wetted_perimeter, top_width) say of
+// its unit system; errors as Table.HeaderUnits.
+func RatingUnits(t *Table) (UnitNote, error) {
+	cs := t.Column(ColRatingStage)
+	if cs < 0 {
+		cs = t.Column(ColGaugeHeight)
+	}
+	return t.HeaderUnits(cs, t.Column(ColRatingDischarge), t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+}
+
+// Sheets of a results workbook that wetline writes (survey/results): the
+// summary first, as items with their values and units, and the rating.
+const (
+	SheetResultsSummary = "summary"
+	SheetResultsRating  = "rating"
+)
+
+// RatingSource is a rating table read back for redrawing, with what the
+// summary sheet of a results workbook says of it.
+type RatingSource struct {
+	// Table is the rating table as read.
+	Table *Table
+	// Summary reports that the workbook's first sheet was a results
+	// summary and its rating sheet was read instead.
+	Summary bool
+	// Site is the value of the summary's site item ("" when none).
+	Site string
+}
+
+// ReadRatingSource reads a rating table as ReadTable does, but from a
+// workbook with no sheet named whose first sheet is the summary of a
+// results workbook (named summary, with item and value columns) and which
+// has a rating sheet, it reads that sheet, with the site the summary's
+// site item gives (the rating sheet's headers name its units).
+func ReadRatingSource(path, sheet string) (RatingSource, error) {
+	t, err := ReadTable(path, sheet)
+	if err != nil || sheet != "" || !strings.EqualFold(t.Sheet, SheetResultsSummary) {
+		return RatingSource{Table: t}, err
+	}
+	ci, cv := t.Column("item"), t.Column("value")
+	if ci < 0 || cv < 0 || !slices.ContainsFunc(t.Sheets, func(s string) bool { return strings.EqualFold(s, SheetResultsRating) }) {
+		return RatingSource{Table: t}, nil
+	}
+	src := RatingSource{Summary: true}
+	for _, rec := range t.Records {
+		if strings.EqualFold(t.Cell(rec, ci), "site") && src.Site == "" {
+			src.Site = t.Cell(rec, cv)
+		}
+	}
+	src.Table, err = ReadTable(path, SheetResultsRating)
+	return src, err
 }
 
 // ratingRow reads one row of a rating table: stage and discharge, each

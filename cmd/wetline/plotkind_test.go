@@ -47,3 +47,61 @@ func TestPlotBackwaterFlags(t *testing.T) {
 		t.Errorf("kind %q (%v), want %q", tab.Kind, err, rating.KindBackwater)
 	}
 }
+
+// TestPlotResultsWorkbook: plot of a results workbook, no sheet named,
+// reads its rating sheet (the first, the summary, is no table), whose
+// headers name its units, for the site its summary gives. The workbook is
+// rate's of an invented rectangular channel in feet.
+func TestPlotResultsWorkbook(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	book := filepath.Join(dir, "mill-ford-results.xlsx")
+	if _, errs, code := runCLI(t, "rate", "--shape", "rectangle:width=12", "--n", "0.035", "--slope", "0.002", "--units", "us",
+		"--site", "Mill Ford Run (invented)", "-o", book); code != 0 {
+		t.Fatalf("rate: exit %d: %s", code, errs)
+	}
+	src, err := survey.ReadRatingSource(book, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !src.Summary || src.Table.Sheet != "rating" || src.Site != "Mill Ford Run (invented)" {
+		t.Errorf("read summary %v sheet %q site %q", src.Summary, src.Table.Sheet, src.Site)
+	}
+	out := filepath.Join(dir, "figs")
+	_, errs, code := runCLI(t, "plot", book, "-o", out)
+	if code != 0 {
+		t.Fatalf("plot: exit %d: %s", code, errs)
+	}
+	if strings.Contains(errs, "names no unit") {
+		t.Errorf("units assumed though the headers name them:\n%s", errs)
+	}
+	if _, err := os.Stat(filepath.Join(out, "mill-ford-rating.png")); err != nil {
+		t.Errorf("no rating figure: %v\n%s", err, errs)
+	}
+	// A sheet named is read as named: the summary is no rating table.
+	if _, errs, code := runCLI(t, "plot", book, "--table-sheet", "summary", "-o", out); code != 1 || !strings.Contains(errs, "missing column") {
+		t.Errorf("plot --table-sheet summary: exit %d: %s", code, errs)
+	}
+}
+
+// TestFigureSite: a redrawn rating is titled by --site, else its
+// section's site, else the site a results workbook's summary holds, not
+// the file's name.
+func TestFigureSite(t *testing.T) {
+	withSite := &survey.Prepared{Site: rating.Site{Name: "Mill Ford Run at the weir"}}
+	for _, tc := range []struct {
+		name, summary string
+		p             *survey.Prepared
+		flag, want    string
+	}{
+		{"summary", "Mill Ford Run (invented)", nil, "", "Mill Ford Run (invented)"},
+		{"section's site", "Mill Ford Run (invented)", withSite, "", "Mill Ford Run at the weir"},
+		{"section without one", "Mill Ford Run (invented)", &survey.Prepared{}, "", "Mill Ford Run (invented)"},
+		{"--site", "Mill Ford Run (invented)", withSite, "Upper Mill Ford", "Upper Mill Ford"},
+		{"none", "", nil, "", ""},
+	} {
+		if got := figureSite(tc.summary, tc.p, tc.flag); got != tc.want {
+			t.Errorf("%s: site %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}

@@ -11,7 +11,7 @@ import (
 
 // TestUnitsAssumedNote: every command reading a rating table that names
 // no unit, without --units and with no other input naming units, says
-// on the console, in one wording (survey.UnitsAssumedNote), that it was
+// on the console (plot too), in one wording (survey.UnitsAssumedNote), that it was
 // read in SI units and --units us reads feet; with --units, or headers
 // naming the units, it says nothing of it. The tables are the invented
 // ones of the tests of record, shifts, compare and fit.
@@ -29,6 +29,9 @@ func TestUnitsAssumedNote(t *testing.T) {
 		args  []string
 		notes []string // files noted
 	}{
+		{"plot", []string{"plot", recRatingA, "-o", o("p1")}, []string{recRatingA}},
+		{"plot --units si", []string{"plot", recRatingA, "--units", "si", "-o", o("p2")}, nil},
+		{"plot, units in the headers", []string{"plot", named, "-o", o("p3")}, nil},
 		{"compare, units in the headers", []string{"compare", named, recRatingB, "--zero-flow", "0.2", "-o", o("c0.csv")}, nil},
 		{"compare to a file", []string{"compare", recRatingA, recRatingB, "-o", o("c.csv")}, []string{recRatingA, recRatingB}},
 		{"compare csv to standard output", []string{"compare", recRatingA, recRatingB, "--format", "csv"}, []string{recRatingA, recRatingB}},
