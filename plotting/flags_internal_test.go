@@ -1,9 +1,13 @@
 package plotting
 
 import (
+	"io"
 	"math"
 	"strings"
 	"testing"
+
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
 
 	"wetline/rating"
 )
@@ -77,5 +81,36 @@ func TestFlagNoteRuns(t *testing.T) {
 	got := FlagNote(FlagMarks(rating.Table{Rows: rows}), rating.SI)
 	if want := "4 unsettled at 4 runs from 10.00 to 16.00 m"; !strings.Contains(got, want) {
 		t.Errorf("note %q, want %q in it", got, want)
+	}
+}
+
+// TestFlagMarksInside: the mark of a flagged last row, at the highest
+// stage and discharge, is drawn whole inside the linear panel (a square
+// of 3.5 points' radius, a ring of 4, a cross of 4.5), measured as
+// TestCompareRatingsMarkersInside measures.
+func TestFlagMarksInside(t *testing.T) {
+	const radius = 4.5 // points: the largest mark, the cross
+	tab := flaggedLadder()
+	r := tableRatingPlot(RatingFigures{Table: tab, ZeroFlow: math.NaN()})
+	d, _ := cleanRatingLines(r)
+	lin := linearRatingPanel(r, d, names(r.Units), 0, false)
+	addFlagMarks(lin, r.Flagged, 0, false)
+	err := render(io.Discard, Size{}, figure{title: "t"}, func(c draw.Canvas) error {
+		lin.Draw(c)
+		dc := lin.DataCanvas(c)
+		trX, trY := lin.Transforms(&dc)
+		rad := vg.Points(radius)
+		for _, m := range r.Flagged {
+			for _, q := range m.Points {
+				x, y := trX(q.Discharge), trY(q.Stage)
+				if x+rad > dc.Max.X || y+rad > dc.Max.Y {
+					t.Errorf("the %s mark of %g at %g leaves the data area", m.Flag, q.Discharge, q.Stage)
+				}
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
 	}
 }

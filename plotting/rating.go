@@ -212,8 +212,14 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 // addFlagMarks draws the flagged rows on a panel, each flag in its own
 // mark (flagGlyph); on the log–log panel (logv) at h − e, leaving out
 // rows at or below e or without flow, and without legend entries, which
-// the linear panel carries.
+// the linear panel carries. The linear panel's axes reach markerPad of
+// their range beyond the highest stage and discharge, so that a mark on
+// the last row is drawn whole.
 func addFlagMarks(p *plot.Plot, marks []FlagMark, e float64, logv bool) {
+	if !logv && len(marks) > 0 {
+		p.X.Max += markerPad * (p.X.Max - p.X.Min)
+		p.Y.Max += markerPad * (p.Y.Max - p.Y.Min)
+	}
 	for _, m := range marks {
 		var xy plotter.XYs
 		for _, q := range m.Points {
