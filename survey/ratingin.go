@@ -211,6 +211,26 @@ type RatingSource struct {
 	Site string
 }
 
+// OtherRatingSheet names the first sheet of the workbook t was read from,
+// other than t's own, whose header has a rating table's stage (or
+// gauge_height) and discharge columns; "" when none has, or t is no
+// workbook sheet.
+func OtherRatingSheet(t *Table) string {
+	if t.Sheet == "" {
+		return ""
+	}
+	for _, name := range t.Sheets {
+		if name == t.Sheet {
+			continue
+		}
+		o, err := ReadTable(t.File, name)
+		if err == nil && (o.Column(ColRatingStage) >= 0 || o.Column(ColGaugeHeight) >= 0) && o.Column(ColRatingDischarge) >= 0 {
+			return name
+		}
+	}
+	return ""
+}
+
 // ReadRatingSource reads a rating table as ReadTable does, but from a
 // workbook with no sheet named whose first sheet is the summary of a
 // results workbook (named summary, with item and value columns) and which

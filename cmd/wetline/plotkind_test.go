@@ -82,6 +82,20 @@ func TestPlotResultsWorkbook(t *testing.T) {
 	if _, errs, code := runCLI(t, "plot", book, "--table-sheet", "summary", "-o", out); code != 1 || !strings.Contains(errs, "missing column") {
 		t.Errorf("plot --table-sheet summary: exit %d: %s", code, errs)
 	}
+	// A first sheet that is no summary and no table: the error names the
+	// sheet that holds one, and the flag to read it.
+	f := openBook(t, book)
+	if err := f.SetSheetName("summary", "field notes"); err != nil {
+		t.Fatal(err)
+	}
+	renamed := filepath.Join(dir, "renamed.xlsx")
+	if err := f.SaveAs(renamed); err != nil {
+		t.Fatal(err)
+	}
+	_, errs, code = runCLI(t, "plot", renamed, "-o", out)
+	if want := "missing column: the header needs a column named \"stage\" (found: item, value, unit); sheet rating holds a rating table: give --table-sheet rating"; code != 1 || !strings.Contains(errs, want) {
+		t.Errorf("plot of a workbook whose first sheet is no table: exit %d: %s\nwant %q", code, errs, want)
+	}
 }
 
 // TestFigureSite: a redrawn rating is titled by --site, else its
