@@ -719,6 +719,10 @@ func (r *Reach) unitSource() UnitSource {
 	return src
 }
 
+// UnitsNamed reports that the reach table or one of its surveys names its
+// units in its headers (else the reach is in si units by default).
+func (r *Reach) UnitsNamed() bool { return r.unitSource().Note.Found }
+
 // AgreeBoundary checks that a boundary rating read for the reach is in
 // the reach's unit system u (from ResolveUnits). With units given
 // (--units), headers naming others are refused (ErrUnitsDisagree at the

@@ -177,8 +177,12 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		if err != nil {
 			return h, nil, nil, err
 		}
-		if err := d.take(ds.Units, hf.shifts); err != nil {
+		note, err := d.takeTable(ds.Units, hf.shifts)
+		if err != nil {
 			return h, nil, nil, err
+		}
+		if note != "" {
+			hf.notes = append(hf.notes, note)
 		}
 		h.Shifts = ds.Diagrams
 		inputs, warnings = append(inputs, hf.shifts), append(warnings, ds.Warnings...)

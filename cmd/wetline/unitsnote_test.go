@@ -57,3 +57,45 @@ func TestUnitsAssumedNote(t *testing.T) {
 		})
 	}
 }
+
+// TestUnitsAssumedNoteWritten: the boundary rating of backwater and the
+// shift diagrams of record (as shifts --proposed writes them) are tables
+// wetline writes too, noted when read in SI units by default; a boundary
+// rating whose headers say metres is not. The reach is the tests' plain
+// reach (bwPlain), whose sections name no unit.
+func TestUnitsAssumedNoteWritten(t *testing.T) {
+	t.Parallel()
+	path := bwPlain(t)
+	dir := filepath.Dir(path)
+	bare, metres := filepath.Join(dir, "bare.csv"), filepath.Join(dir, "metres.csv")
+	rows := "100.5,1\n101,6\n101.5,15\n102,40\n103,100\n"
+	for f, h := range map[string]string{bare: "stage,discharge", metres: "stage (m),discharge (m3/s)"} {
+		if err := os.WriteFile(f, []byte(h+"\n"+rows), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		notes []string
+	}{
+		{"backwater rating boundary", []string{"backwater", path, "--discharges", "5,20", "--boundary", "rating:" + bare, "--at", "XS-1", "-o", filepath.Join(dir, "b1.csv")}, []string{bare}},
+		{"backwater rating boundary in metres", []string{"backwater", path, "--discharges", "5,20", "--boundary", "rating:" + metres, "--at", "XS-1", "-o", filepath.Join(dir, "b2.csv")}, nil},
+		{"record --shifts", []string{"record", recStages, "--rating", recRatingA, "--shifts", recShifts, "-o", filepath.Join(dir, "r.csv")}, []string{recRatingA, recShifts}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			if got := strings.Count(errs, "names no unit"); got != len(tc.notes) {
+				t.Errorf("%d notes of units assumed, want %d:\n%s", got, len(tc.notes), errs)
+			}
+			for _, f := range tc.notes {
+				if !strings.Contains(errs, "input: "+survey.UnitsAssumedNote(f)) {
+					t.Errorf("no note of %s:\n%s", f, errs)
+				}
+			}
+		})
+	}
+}
