@@ -105,6 +105,14 @@ func compareFoot(clipped bool) []string {
 		DefaultCaution}
 }
 
+// ratingComparisonSubtitle is the second line of a rating comparison: the
+// common range and the largest percent difference of B from A with its
+// sign, as the report gives it (gauged.RatingComparison.MaxPercentSigned).
+func ratingComparisonSubtitle(c *gauged.RatingComparison, un unitNames) string {
+	return fmt.Sprintf("common range %s to %s %s; largest difference 100·(B − A)/A %s %% at %s %s", fmtStage(c.From), fmtStage(c.To), un.length,
+		fmtSigned(c.MaxPercentSigned(), 2), fmtStage(c.MaxStage), un.length)
+}
+
 func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string, size Size) (Result, error) {
 	var res Result
 	un := names(c.Units)
@@ -150,9 +158,8 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 	}
 	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
 	fig := figure{
-		title: titleOf(site, "", "two ratings compared"),
-		subtitle: fmt.Sprintf("common range %s to %s %s; largest difference %s %% at %s %s", fmtStage(c.From), fmtStage(c.To), un.length,
-			fmtNum(c.MaxPercent), fmtStage(c.MaxStage), un.length),
+		title:     titleOf(site, "", "two ratings compared"),
+		subtitle:  ratingComparisonSubtitle(c, un),
 		foot:      compareFoot(clipped),
 		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
 	}

@@ -2,7 +2,9 @@ package plotting
 
 import (
 	"io"
+	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/plot/vg"
@@ -10,6 +12,7 @@ import (
 	"gonum.org/v1/plot/vg/recorder"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 	"wetline/rating/reach"
 )
 
@@ -94,5 +97,27 @@ func TestBackwaterRatingMarksCritical(t *testing.T) {
 	}
 	if !found {
 		t.Errorf("no legend entry %q in the rating figure", criticalLabel)
+	}
+}
+
+// TestRatingComparisonSubtitleSign: the subtitle gives the largest percent
+// difference with its sign, as the report does: B below A near zero flow
+// is a negative difference. An invented comparison whose rows give
+// 100·(0.3 − 2.532)/2.532 = −88.15 % at 1.5 ft and +4 % at 10 ft.
+func TestRatingComparisonSubtitleSign(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		rows []gauged.RatingDifference
+		want string
+	}{
+		{"B below A", []gauged.RatingDifference{{Stage: 1.5, A: 2.532, B: 0.3, Percent: -88.15}, {Stage: 10, A: 100, B: 104, Percent: 4}},
+			"largest difference 100·(B − A)/A -88.15 % at 1.50 ft"},
+		{"B above A", []gauged.RatingDifference{{Stage: 1.5, A: 2, B: 2.2, Percent: 10}, {Stage: 10, A: 100, B: 104, Percent: 4}},
+			"largest difference 100·(B − A)/A +10.00 % at 1.50 ft"},
+	} {
+		c := &gauged.RatingComparison{Units: rating.US, From: 1.5, To: 10, Rows: tc.rows, MaxPercent: math.Abs(tc.rows[0].Percent), MaxStage: 1.5}
+		if got := ratingComparisonSubtitle(c, names(rating.US)); !strings.Contains(got, tc.want) {
+			t.Errorf("%s: subtitle %q, want %q in it", tc.name, got, tc.want)
+		}
 	}
 }

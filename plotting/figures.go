@@ -60,31 +60,23 @@ func (s *figureSet) add(kind, caption string, draw func(w io.Writer) (Result, er
 }
 
 // DrawRating draws the rating, cross-section (with a ground line) and
-// properties figures of a rating table, its curve named by TableLabel. A
-// table without geometry columns has no properties figure (said in a
-// warning).
+// properties figures of a rating table, its curve named by TableLabel and
+// the figure titled by the table's Kind when it has one; rows flagged
+// unsettled, critical_stage or above_end are marked (FlagMarks) and
+// counted in a foot note (FlagNote). A step-backwater table carries that
+// method's caution. A table without geometry columns has no properties
+// figure (said in a warning).
 func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	set := &figureSet{base: in.Base}
 	t := in.Table
-	sub := in.Subtitle
-	if t.Slope > 0 {
-		sub = fmt.Sprintf("hydraulic rating by Manning's equation, friction slope %g, %s units; %s",
-			t.Slope, strings.ToUpper(t.Units.String()), sub)
-	}
-	rp := RatingPlot{Site: in.Site, Section: t.Name, Subtitle: strings.TrimSuffix(sub, "; "), Units: t.Units,
-		Hydraulic: CurveFromTable(t, TableLabel(t)), Size: in.Size}
-	if !math.IsNaN(in.ZeroFlow) {
-		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
-	}
+	rp := tableRatingPlot(in)
 	// The section is drawn in elevations; the rating and the properties
 	// in the table's stages, which may be gauge heights.
 	datum := 0.0
 	if t.GaugeHeights {
 		datum = t.Datum
-		rp.Subtitle += fmt.Sprintf("; stages are gauge heights, gauge zero at elevation %g %s", datum, t.Units.Length())
 	}
 	bankfull, hasBankfull := in.Ground.Section.Bankfull()
-	rp.Bankfull, rp.HasBankfull = bankfull-datum, hasBankfull
 	if err := set.add("rating", "stage–discharge rating, linear and log–log", func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
 	}); err != nil {
@@ -111,15 +103,52 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	return set.figs, set.warnings, nil
 }
 
-// TableLabel names a rating table's curve by what the table is: a
+// tableRatingPlot lays out the rating figure of a rating table: titled
+// and labelled by what the table is (its Kind, else a Manning rating by
+// its slope), its flagged rows marked and counted in a foot note, the
+// caution of its method, the gauge height of zero flow and bankfull
+// (in the table's stages) as given.
+func tableRatingPlot(in RatingFigures) RatingPlot {
+	t := in.Table
+	sub := in.Subtitle
+	switch {
+	case t.Kind != "":
+		sub = fmt.Sprintf("%s, %s units; %s", t.Kind, strings.ToUpper(t.Units.String()), sub)
+	case t.Slope > 0:
+		sub = fmt.Sprintf("hydraulic rating by Manning's equation, friction slope %g, %s units; %s",
+			t.Slope, strings.ToUpper(t.Units.String()), sub)
+	}
+	rp := RatingPlot{Site: in.Site, Section: t.Name, Subtitle: strings.TrimSuffix(sub, "; "), Units: t.Units,
+		Hydraulic: CurveFromTable(t, TableLabel(t)), Size: in.Size, What: t.Kind, Flagged: FlagMarks(t)}
+	if note := FlagNote(rp.Flagged, t.Units); note != "" {
+		rp.Notes = append(rp.Notes, note)
+	}
+	if t.Kind == rating.KindBackwater {
+		rp.Caution = DefaultBackwaterCaution
+	}
+	if !math.IsNaN(in.ZeroFlow) {
+		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
+	}
+	datum := 0.0
+	if t.GaugeHeights {
+		datum = t.Datum
+		rp.Subtitle += fmt.Sprintf("; stages are gauge heights, gauge zero at elevation %g %s", datum, t.Units.Length())
+	}
+	bankfull, hasBankfull := in.Ground.Section.Bankfull()
+	rp.Bankfull, rp.HasBankfull = bankfull-datum, hasBankfull
+	return rp
+}
+
+// TableLabel names a rating table's curve by what the table is: its Kind
+// when its source says so (a fitted or step-backwater rating), else a
 // hydraulic rating by Manning's equation when it has a friction slope,
-// else its Kind, else neutrally a rating table.
+// else neutrally a rating table.
 func TableLabel(t rating.Table) string {
 	switch {
-	case t.Slope > 0:
-		return "hydraulic rating (Manning)"
 	case t.Kind != "":
 		return t.Kind
+	case t.Slope > 0:
+		return "hydraulic rating (Manning)"
 	}
 	return "rating table"
 }

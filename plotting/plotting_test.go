@@ -346,8 +346,9 @@ func referenceDir(t *testing.T) string {
 }
 
 // TestTableLabel checks that a rating table's curve is named by what the
-// table is: Manning's only for a table with a friction slope (a
-// uniform-flow rating), its kind when it has one, else neutrally.
+// table is: its kind when it has one (a step-backwater rating even where
+// its rows' friction slopes agree), Manning's for a table with a friction
+// slope (a uniform-flow rating), else neutrally.
 func TestTableLabel(t *testing.T) {
 	for _, tc := range []struct {
 		name  string
@@ -356,6 +357,8 @@ func TestTableLabel(t *testing.T) {
 	}{
 		{"uniform flow", rating.Table{Slope: 0.0012}, "hydraulic rating (Manning)"},
 		{"fitted", rating.Table{Slope: math.NaN(), Kind: "fitted rating"}, "fitted rating"},
+		{"step-backwater, its flags read", rating.Table{Slope: math.NaN(), Kind: rating.KindBackwater}, "step-backwater rating"},
+		{"step-backwater whose slopes agree", rating.Table{Slope: 0.0015, Kind: rating.KindBackwater}, "step-backwater rating"},
 		{"step-backwater, no single slope", rating.Table{Slope: math.NaN()}, "rating table"},
 		{"stage and discharge only", rating.Table{}, "rating table"},
 	} {

@@ -139,6 +139,12 @@ type RatingPlot struct {
 	// panel (length unit; see the package function Bankfull).
 	Bankfull    float64
 	HasBankfull bool
+	// Flagged are rows of a table marked by their flags (see FlagMarks),
+	// drawn over the curves in both panels, each flag with its legend
+	// entry.
+	Flagged []FlagMark
+	// What ends the title ("" gives "stage–discharge rating").
+	What string
 	// Notes are extra lines at the foot, above the caution (the source of
 	// an extrapolation, the fit's standard error).
 	Notes []string
@@ -208,7 +214,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 	panels := ratingPanels(r, d, un, e, haveE, &res)
 	caution := orDefault(r.Caution, DefaultCaution)
 	fig := figure{
-		title:     titleOf(r.Site, r.Section, "stage–discharge rating"),
+		title:     titleOf(r.Site, r.Section, orDefault(r.What, "stage–discharge rating")),
 		subtitle:  r.Subtitle,
 		foot:      append(append([]string(nil), r.Notes...), caution),
 		footColor: colCaution,
@@ -228,6 +234,7 @@ func ratingPanels(r RatingPlot, d ratingLines, un unitNames, e float64, haveE bo
 		padLinear(&lin.X)
 		padLinear(&lin.Y)
 	}
+	addFlagMarks(lin, r.Flagged, 0, false)
 	panels := []*plot.Plot{lin}
 	if !haveE {
 		return panels
@@ -238,9 +245,49 @@ func ratingPanels(r RatingPlot, d ratingLines, un unitNames, e float64, haveE bo
 			padLog(&lg.X, xlo, xhi)
 			padLog(&lg.Y, ylo, yhi)
 		}
+		addFlagMarks(lg, r.Flagged, e, true)
 		panels = append(panels, lg)
 	}
 	return panels
+}
+
+// addFlagMarks draws the flagged rows on a panel, each flag in its own
+// mark (flagGlyph); on the log–log panel (logv) at h − e, leaving out
+// rows at or below e or without flow, and without legend entries, which
+// the linear panel carries. The linear panel's axes reach markerPad of
+// their range beyond the highest stage and discharge, so that a mark on
+// the last row is drawn whole.
+func addFlagMarks(p *plot.Plot, marks []FlagMark, e float64, logv bool) {
+	if !logv && len(marks) > 0 {
+		p.X.Max += markerPad * (p.X.Max - p.X.Min)
+		p.Y.Max += markerPad * (p.Y.Max - p.Y.Min)
+	}
+	for _, m := range marks {
+		var xy plotter.XYs
+		for _, q := range m.Points {
+			y := q.Stage
+			if logv {
+				y -= e
+				if !(y > 0 && q.Discharge > 0) {
+					continue
+				}
+			}
+			xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
+		}
+		if len(xy) == 0 {
+			continue
+		}
+		sc, err := plotter.NewScatter(xy)
+		if err != nil {
+			continue
+		}
+		style, label := flagGlyph(m.Flag)
+		sc.GlyphStyle = style
+		p.Add(sc)
+		if !logv {
+			p.Legend.Add(label, sc)
+		}
+	}
 }
 
 // ratingLines are the drawable parts of a rating figure: its curves

@@ -46,10 +46,14 @@ type Table struct {
 	Rows []Row
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
-	// Kind names what the table is when its source says so and Slope
-	// does not (e.g. a fitted rating), for labels; "" when unknown.
+	// Kind names what the table is when its source says so (a fitted
+	// rating, KindBackwater), for labels; "" when unknown.
 	Kind string
 }
+
+// KindBackwater is the Kind of a step-backwater rating: its stages come
+// from water-surface profiles, not from Manning's equation at one slope.
+const KindBackwater = "step-backwater rating"
 
 // MaxDefaultRows bounds the row count DefaultStages aims for.
 const MaxDefaultRows = 50

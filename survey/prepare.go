@@ -56,11 +56,31 @@ type SectionRequest struct {
 	// Coordinates say how a coordinate survey becomes stations (ignored
 	// for a survey by station).
 	Coordinates CoordinateOptions
+	// Roughless says how the request's answer uses the conveyance of a
+	// built shape, which alone needs Manning's n: a shape given no n is
+	// refused unless Roughless allows it (see RoughUse).
+	Roughless RoughUse
 	// Book, when set, is the workbook Path names, already open: the
 	// sheet is read from it rather than from the file again (see
 	// OpenBook).
 	Book *OpenBook
 }
+
+// RoughUse says what a computation takes from a section's roughness.
+type RoughUse int
+
+const (
+	// RoughNeeded: Manning's equation is used (a rating, a normal stage,
+	// a uniform-flow discharge): n is needed.
+	RoughNeeded RoughUse = iota
+	// RoughAlphaOnly: only the velocity-distribution coefficient alpha
+	// is used (critical flow without a slope). In a shape of one region
+	// alpha is 1 whatever n is, so no n is needed; a compound shape
+	// weighs its floodplains by conveyance, so it needs n.
+	RoughAlphaOnly
+	// RoughUnused: nothing depends on n (a stage for a flow area).
+	RoughUnused
+)
 
 // Prepared is a section ready for hydraulics.
 type Prepared struct {
@@ -222,14 +242,12 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 		return nil, requestf("bank stations do not apply to a built shape (a compound shape's banks are its channel's top corners)")
 	case req.Sheet != "":
 		return nil, requestf("a sheet does not apply to a built shape")
-	case req.N == nil:
-		return nil, requestf("a built shape needs Manning's n")
 	}
 	sh, err := subdivide.ParseShape(req.Shape)
 	if err != nil {
 		return nil, requestf("%w", err)
 	}
-	n, err := ShapeN(sh, req.N)
+	n, err := shapeRoughness(sh, req)
 	if err != nil {
 		return nil, err
 	}
@@ -249,6 +267,27 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 	}
 	p.Geometry = rating.CompositeGeometry(g, req.Composite)
 	return p, nil
+}
+
+// unusedN is the n a built shape is built with when its answer does not
+// depend on n (RoughUnused, or RoughAlphaOnly in a shape of one region):
+// any positive value gives the same area, width, alpha and critical flow.
+const unusedN = 1
+
+// shapeRoughness is the n by region of a built shape: the one given (see
+// ShapeN), else unusedN where the request's answer does not depend on n;
+// else ErrRequest saying why n is needed.
+func shapeRoughness(sh subdivide.Shape, req SectionRequest) (subdivide.PerRegion, error) {
+	if req.N != nil {
+		return ShapeN(sh, req.N)
+	}
+	switch {
+	case req.Roughless == RoughUnused, req.Roughless == RoughAlphaOnly && sh.Kind != subdivide.Compound:
+		return subdivide.PerRegion{Left: unusedN, Channel: unusedN, Right: unusedN}, nil
+	case req.Roughless == RoughAlphaOnly:
+		return subdivide.PerRegion{}, requestf("a compound shape needs Manning's n (--n) even for critical flow: alpha weighs its floodplains by their conveyance")
+	}
+	return subdivide.PerRegion{}, requestf("a built shape needs Manning's n (--n) for Manning's equation")
 }
 
 // ShapeN turns a given n into n by region for a built shape: one value

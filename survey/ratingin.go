@@ -6,12 +6,14 @@ import (
 	"io"
 	"math"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/rating/reach"
 )
 
 // ReadRatingCSV reads back a rating table written by WriteRatingCSV, from
@@ -49,6 +51,15 @@ var ErrRatingPeriods = errors.New("one rating per file is read; give each period
 // columns (basis or extrapolated).
 const KindFitted = "fitted rating"
 
+// KindBackwater is the Kind of a rating table whose flags column carries
+// a step-backwater run's own flags (reach.FlagUnsettled,
+// reach.FlagCriticalStage), as backwater writes its rating.
+const KindBackwater = rating.KindBackwater
+
+// ColRatingFlags is the column of a rating table's row flags, words
+// separated by spaces (rating.FlagAboveEnd, reach.FlagUnsettled, ...).
+const ColRatingFlags = "flags"
+
 // Tolerances of the friction slope read from a rating table. Its values
 // are written to six significant digits, so Q/K is good to about 1e-5 and
 // (Q/K)² to slopeRoundingTol; rows whose slopes spread by no more than
@@ -78,9 +89,11 @@ const (
 // lowest stage; Top is the highest stage. Slope is the friction slope
 // (Q/K)² when at least two rows with flow and conveyance give the same one
 // (a uniform-flow table by Manning's equation, as rate writes), as the
-// shortest decimal within the table's rounding; else NaN. Kind is
-// KindFitted for a table with a rating fit's columns, else "". Every bad
-// cell is reported, each naming its row and column.
+// shortest decimal within the table's rounding; else NaN. Each row's
+// flags are the words of its flags column. Kind is KindFitted for a table
+// with a rating fit's columns, KindBackwater for one whose flags include
+// a step-backwater run's, else "". Every bad cell is reported, each
+// naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
@@ -93,6 +106,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	for _, name := range ratingRowColumns() {
 		read = append(read, t.Column(name))
 	}
+	read = append(read, t.Column(ColRatingFlags))
 	if err := t.unsavedIn(read...); err != nil {
 		return out, err
 	}
@@ -154,8 +168,8 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 }
 
 // ratingColumns finds a rating table's stage and discharge columns and
-// its unit system: the units its headers name (stage, discharge and the
-// geometry columns), which must agree with choice.
+// its unit system: the units its headers name (RatingUnits), which must
+// agree with choice.
 func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units, err error) {
 	if cs, err = t.Require(ColRatingStage, ColGaugeHeight); err != nil {
 		return
@@ -163,12 +177,86 @@ func ratingColumns(t *Table, choice UnitChoice) (cs, cq int, units rating.Units,
 	if cq, err = t.Require("discharge"); err != nil {
 		return
 	}
-	note, err := t.HeaderUnits(cs, cq, t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+	note, err := RatingUnits(t)
 	if err != nil {
 		return
 	}
 	units, err = note.Resolve(choice.Units, choice.Given)
 	return
+}
+
+// RatingUnits is what the headers of a rating table's stage, discharge
+// and geometry columns (depth, area, wetted_perimeter, top_width) say of
+// its unit system; errors as Table.HeaderUnits.
+func RatingUnits(t *Table) (UnitNote, error) {
+	cs := t.Column(ColRatingStage)
+	if cs < 0 {
+		cs = t.Column(ColGaugeHeight)
+	}
+	return t.HeaderUnits(cs, t.Column(ColRatingDischarge), t.Column("depth"), t.Column("area"), t.Column("wetted_perimeter"), t.Column("top_width"))
+}
+
+// Sheets of a results workbook that wetline writes (survey/results): the
+// summary first, as items with their values and units, and the rating.
+const (
+	SheetResultsSummary = "summary"
+	SheetResultsRating  = "rating"
+)
+
+// RatingSource is a rating table read back for redrawing, with what the
+// summary sheet of a results workbook says of it.
+type RatingSource struct {
+	// Table is the rating table as read.
+	Table *Table
+	// Summary reports that the workbook's first sheet was a results
+	// summary and its rating sheet was read instead.
+	Summary bool
+	// Site is the value of the summary's site item ("" when none).
+	Site string
+}
+
+// OtherRatingSheet names the first sheet of the workbook t was read from,
+// other than t's own, whose header has a rating table's stage (or
+// gauge_height) and discharge columns; "" when none has, or t is no
+// workbook sheet.
+func OtherRatingSheet(t *Table) string {
+	if t.Sheet == "" {
+		return ""
+	}
+	for _, name := range t.Sheets {
+		if name == t.Sheet {
+			continue
+		}
+		o, err := ReadTable(t.File, name)
+		if err == nil && (o.Column(ColRatingStage) >= 0 || o.Column(ColGaugeHeight) >= 0) && o.Column(ColRatingDischarge) >= 0 {
+			return name
+		}
+	}
+	return ""
+}
+
+// ReadRatingSource reads a rating table as ReadTable does, but from a
+// workbook with no sheet named whose first sheet is the summary of a
+// results workbook (named summary, with item and value columns) and which
+// has a rating sheet, it reads that sheet, with the site the summary's
+// site item gives (the rating sheet's headers name its units).
+func ReadRatingSource(path, sheet string) (RatingSource, error) {
+	t, err := ReadTable(path, sheet)
+	if err != nil || sheet != "" || !strings.EqualFold(t.Sheet, SheetResultsSummary) {
+		return RatingSource{Table: t}, err
+	}
+	ci, cv := t.Column("item"), t.Column("value")
+	if ci < 0 || cv < 0 || !slices.ContainsFunc(t.Sheets, func(s string) bool { return strings.EqualFold(s, SheetResultsRating) }) {
+		return RatingSource{Table: t}, nil
+	}
+	src := RatingSource{Summary: true}
+	for _, rec := range t.Records {
+		if strings.EqualFold(t.Cell(rec, ci), "site") && src.Site == "" {
+			src.Site = t.Cell(rec, cv)
+		}
+	}
+	src.Table, err = ReadTable(path, SheetResultsRating)
+	return src, err
 }
 
 // ratingField is an optional column of a rating table and the field of
@@ -209,9 +297,11 @@ func ratingRowColumns() []string {
 
 // ratingRow reads one row of a rating table: stage and discharge, each
 // NaN when blank or bad (the error kept in c), and the hydraulics of the
-// columns given (ratingFields; NaN when absent).
+// columns given (ratingFields; NaN when absent), and its flags (the words
+// of a flags column, as rate and backwater write them).
 func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
-	r := rating.Row{Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge)}
+	r := rating.Row{Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge),
+		Flags: strings.Fields(c.t.Cell(rec, c.t.Column(ColRatingFlags)))}
 	for _, f := range ratingFields() {
 		f.set(&r, c.optional(rec, f.name))
 	}
@@ -227,8 +317,13 @@ func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth b
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: ErrEmpty}
 	}
 	out.Slope = uniformSlope(out.Rows)
-	if t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0 {
+	switch {
+	case t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0:
 		out.Kind = KindFitted
+	case slices.ContainsFunc(out.Rows, func(r rating.Row) bool {
+		return slices.Contains(r.Flags, reach.FlagUnsettled) || slices.Contains(r.Flags, reach.FlagCriticalStage)
+	}):
+		out.Kind = KindBackwater
 	}
 	if !bottomFromDepth {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",

@@ -137,7 +137,10 @@ func TestRatingTableUnits(t *testing.T) {
 // one friction slope S = (Q/K)²; a step-backwater table's rows each have
 // their own. The uniform rows below are Q = K·√0.0012 written to six
 // significant digits, as rate writes them; the varying ones are the first
-// rows of a step-backwater table (invented).
+// rows of a step-backwater table (invented); a table whose flags column
+// carries backwater's own flags (unsettled, critical_stage) is one
+// whatever its slopes, while rate's flags (pools, above_end) say nothing
+// of the method.
 func TestRatingFromTableKind(t *testing.T) {
 	for _, tc := range []struct {
 		name, csv string
@@ -152,6 +155,12 @@ func TestRatingFromTableKind(t *testing.T) {
 		{"no conveyance", "stage,discharge\n1,0\n2,1\n", math.NaN(), ""},
 		{"fit table", "stage,discharge,extrapolated,basis\n0.4,0.036,true,fit below gaugings\n0.46,0.123,false,fit\n", math.NaN(), KindFitted},
 		{"rating period table", "stage,discharge,extrapolated\n0.4,0.036,false\n0.5,0.2,true\n", math.NaN(), KindFitted},
+		{"step-backwater, unsettled", "stage,conveyance,discharge,flags\n100.7915,42.4931,2,unsettled\n100.9757,85.2777,4,\n101.1163,129.367,6,\n",
+			math.NaN(), KindBackwater},
+		{"step-backwater, critical and above an end", "stage,conveyance,discharge,flags\n100.7915,42.4931,2,critical_stage\n100.9757,85.2777,4,\n101.1163,129.367,6,above_end\n",
+			math.NaN(), KindBackwater},
+		{"rate's flags only", "stage,conveyance,discharge,flags\n100.3,0,0,\n100.4,0.871846,0.0302016,pools\n100.5,5.35796,0.185605,\n101,92.2038,3.19403,above_end\n",
+			0.0012, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			tab, err := ParseRatingCSV(strings.NewReader(tc.csv), "t.csv", UnitChoice{})
@@ -283,5 +292,21 @@ func TestRatingSection(t *testing.T) {
 		if got := ratingSection(&Table{File: tc.file, Sheet: tc.sheet}); got != tc.want {
 			t.Errorf("%s['%s']: %q, want %q", tc.file, tc.sheet, got, tc.want)
 		}
+	}
+}
+
+// TestRatingFromTableFlags: each row's flags are the words of its flags
+// column, blank for none.
+func TestRatingFromTableFlags(t *testing.T) {
+	tab, err := ParseRatingCSV(strings.NewReader("stage,discharge,flags\n1,0,\n2,5,above_end unsettled\n3,9, critical_stage \n"), "t.csv", UnitChoice{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, r := range tab.Rows {
+		got = append(got, strings.Join(r.Flags, "+"))
+	}
+	if want := []string{"", "above_end+unsettled", "critical_stage"}; strings.Join(got, "|") != strings.Join(want, "|") {
+		t.Errorf("flags %q, want %q", got, want)
 	}
 }

@@ -322,15 +322,20 @@ func otherReachSheet(path string, t *Table, err error) error {
 		if e != nil || o.Column(ReachColSection) < 0 || o.Column(ReachColSurvey) < 0 || o.Column(ReachColDistance) < 0 {
 			continue
 		}
-		arg := name
-		if strings.ContainsAny(name, " '\"$&;|()<>*?!#`") {
-			arg = "'" + strings.ReplaceAll(name, "'", `'\''`) + "'"
-		}
 		pe.Err = fmt.Errorf("%w; this sheet is not the reach table (read by default as the workbook's first): "+
-			"sheet %s holds one: give --sheet %s", pe.Err, name, arg)
+			"sheet %s holds one: give --sheet %s", pe.Err, name, SheetArg(name))
 		return err
 	}
 	return err
+}
+
+// SheetArg is a sheet's name as a shell word for a flag in a message:
+// quoted when it holds a space or a character the shell reads.
+func SheetArg(name string) string {
+	if strings.ContainsAny(name, " '\"$&;|()<>*?!#`") {
+		return "'" + strings.ReplaceAll(name, "'", `'\''`) + "'"
+	}
+	return name
 }
 
 // slashedPath is the path of a survey written with backslashes (as
@@ -714,6 +719,10 @@ func (r *Reach) unitSource() UnitSource {
 	}
 	return src
 }
+
+// UnitsNamed reports that the reach table or one of its surveys names its
+// units in its headers (else the reach is in si units by default).
+func (r *Reach) UnitsNamed() bool { return r.unitSource().Note.Found }
 
 // AgreeBoundary checks that a boundary rating read for the reach is in
 // the reach's unit system u (from ResolveUnits). With units given

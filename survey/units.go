@@ -158,6 +158,16 @@ func (s UnitSource) Agree(file string, n UnitNote) error {
 		file, ErrUnitsUnnamed, s.Note.At.Position(), s.Note.Text, u, s.Note.At.Name, u, file, u)
 }
 
+// UnitsAssumedNote is the input note of a table that names no unit in its
+// headers (as the CSV tables wetline writes of a rating do) read with no
+// unit system asked for or named by another input: it was read in si
+// units, the default, and --units us reads it in feet. file names the
+// table (with its sheet).
+func UnitsAssumedNote(file string) string {
+	return fmt.Sprintf("%s: names no unit: read in SI units (%s, %s), the default; give --units us for a table in feet (%s, %s)",
+		file, rating.SI.Length(), rating.SI.Discharge(), rating.US.Length(), rating.US.Discharge())
+}
+
 // UnitChoice is the unit system asked for, and whether it was asked for
 // explicitly (else the headers decide).
 type UnitChoice struct {

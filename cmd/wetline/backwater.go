@@ -274,7 +274,7 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	}[format]
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
-		inline: format == "text" || format == "json", warnings: rep.Warnings, plots: f.plots, figs: rep.Figures,
+		inline: format == "text" || format == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: f.plots, figs: rep.Figures,
 		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) }})
 }
 
@@ -300,7 +300,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		return rep, usagef("backwater: --at %q: %v (the sections are %s)", at, reach.ErrRatingSection, strings.Join(ids, ", "))
 	}
 	inputs := rt.Inputs()
-	var warnings []string // the boundary rating's
+	var warnings, notes []string // the boundary rating's
 	if b.Kind == reach.StageRating {
 		br, err := survey.ReadBoundaryRating(bfile, "")
 		if err != nil {
@@ -314,6 +314,9 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		}
 		inputs = append(inputs, bfile)
 		warnings = br.Warnings
+		if n := unitsAssumed(survey.Position(br.File, br.Sheet), br.Units, unitsGiven || rt.UnitsNamed()); n != "" {
+			notes = append(notes, n)
+		}
 	}
 	secs, err := rt.ReachSections(opt.Backwater.Units)
 	if err != nil {
@@ -331,7 +334,7 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 	}
 	rep.Name = survey.Position(path, sheet)
 	rep.BoundarySource = bfile
-	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: rt.Site}
+	rep.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: rt.Site, Notes: notes}
 	rep.Warnings = slices.Concat(rt.Warnings, warnings, rep.Warnings)
 	return rep, nil
 }

@@ -153,7 +153,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		return err
 	}
 	var tables [2]*gauged.TableRating
-	var warnings []string
+	var warnings, notes []string
 	// The headers of A, then of B, set the units unless --units does.
 	d, err := decideUnits(f.units, fs.Changed("units"))
 	if err != nil {
@@ -172,8 +172,12 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		if err != nil {
 			return zeroFlowAbove("compare", opt, err)
 		}
-		if err := d.take(rt.Units, in.path); err != nil {
+		note, err := d.takeTable(rt.Units, in.path)
+		if err != nil {
 			return err
+		}
+		if note != "" {
+			notes = append(notes, note)
 		}
 		if n := len(rt.Periods); n != 1 {
 			return fmt.Errorf("compare: %s holds %d rating periods (a %s column): compare takes one rating per file", in.path, n, survey.ColRatingValidFrom)
@@ -190,7 +194,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 	if err != nil {
 		return fmt.Errorf("compare: %s and %s: %w", a, b, err)
 	}
-	c.Provenance = rating.Provenance{Program: program(), Inputs: []string{a, b}, Site: siteWith(rating.Site{}, f.site)}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: []string{a, b}, Site: siteWith(rating.Site{}, f.site), Notes: notes}
 	c.Warnings = append(warnings, c.Warnings...)
 	if f.plots != "" || format == "xlsx" {
 		figs, w, err := plotting.DrawRatingComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
@@ -204,13 +208,13 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		"csv": results.WriteRatingComparisonCSV, "xlsx": results.WriteRatingComparisonWorkbook,
 	}[format]
 	what := "two ratings, largest difference " + results.LargestDifference(&c)
-	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) }, what, len(c.Rows))
+	return f.deliver(e, format, c.Provenance, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) }, what, len(c.Rows))
 }
 
 // deliver writes a comparison report and its figures.
-func (f *compareFlags) deliver(e *env, format string, inputs, warnings []string, figs []rating.Figure, write func(io.Writer) error, what string, rows int) error {
-	return e.deliver(delivery{output: f.output, inputs: inputs, write: write,
-		inline: format == "text" || format == "json", warnings: warnings, plots: f.plots, figs: figs,
+func (f *compareFlags) deliver(e *env, format string, p rating.Provenance, warnings []string, figs []rating.Figure, write func(io.Writer) error, what string, rows int) error {
+	return e.deliver(delivery{output: f.output, inputs: p.Inputs, write: write,
+		inline: format == "text" || format == "json", warnings: warnings, notes: p.Notes, plots: f.plots, figs: figs,
 		summary: func(w io.Writer) error { return results.WriteComparisonSummary(w, what, rows, warnings, f.output) }})
 }
 
@@ -263,7 +267,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 		"text": results.WriteSectionComparisonText, "json": results.WriteSectionComparisonJSON,
 		"csv": results.WriteSectionComparisonCSV, "xlsx": results.WriteSectionComparisonWorkbook,
 	}[format]
-	return f.deliver(e, format, c.Provenance.Inputs, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) },
+	return f.deliver(e, format, c.Provenance, c.Warnings, c.Figures, func(w io.Writer) error { return write(w, &c) },
 		"two surveys of one section", len(c.Rows))
 }
 

@@ -25,8 +25,9 @@ type delivery struct {
 	// standard error after it.
 	inline   bool
 	warnings []string
-	// notes are input notes ("input: ..." on the console before the
-	// warnings, when the report does not carry them itself).
+	// notes are input notes ("input: ..." on the console: before the
+	// warnings when the report goes to standard output and does not carry
+	// them itself, before the summary when it goes to a file).
 	notes []string
 	plots string // folder for the figures; "" for none
 	figs  []rating.Figure
@@ -107,6 +108,9 @@ func (e *env) deliver(d delivery) error {
 		}
 		return endNote(e.stderr, d.warnings)
 	case !d.toStdout() && d.summary != nil:
+		if err := results.WriteInputNotes(e.stderr, d.notes); err != nil {
+			return err
+		}
 		return d.summary(e.stderr)
 	}
 	return nil

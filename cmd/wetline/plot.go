@@ -91,9 +91,22 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 			u, by = survey.UnitChoice{Units: p.Units, Given: true}, "the headers of "+p.Source()
 		}
 	}
-	t, err := survey.ReadRatingCSV(path, tableSheet, u)
+	src, err := survey.ReadRatingSource(path, tableSheet)
+	if err != nil {
+		return err
+	}
+	header, err := survey.RatingUnits(src.Table)
+	if err != nil {
+		return err
+	}
+	t, err := survey.RatingFromTable(src.Table, u)
 	if errors.Is(err, survey.ErrUnitsDisagree) {
 		return fmt.Errorf("%w (%s units set by %s)", err, u.Units, by)
+	}
+	if errors.Is(err, survey.ErrMissingColumn) && tableSheet == "" {
+		if other := survey.OtherRatingSheet(src.Table); other != "" {
+			return fmt.Errorf("%w; sheet %s holds a rating table: give --table-sheet %s", err, other, survey.SheetArg(other))
+		}
 	}
 	if err != nil {
 		return err
@@ -102,17 +115,27 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 		t.GaugeHeights, t.Datum = true, f.datum
 	}
 	inputs := []string{path}
+	var notes []string
+	if n := unitsAssumed(survey.Position(path, src.Table.Sheet), header, u.Given); n != "" {
+		notes = append(notes, n)
+	}
 	warnings := append([]string(nil), t.Warnings...)
-	in := plotting.RatingFigures{Site: f.site, Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
+	if n := plotting.FlagNote(plotting.FlagMarks(t), t.Units); n != "" {
+		warnings = append(warnings, survey.Position(path, src.Table.Sheet)+": "+n)
+	}
+	in := plotting.RatingFigures{Site: figureSite(src.Site, p, f.site), Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
+	if src.Summary {
+		in.Subtitle += ", sheet " + src.Table.Sheet
+	}
 	if p != nil {
 		inputs = append(inputs, p.Inputs...)
 		warnings = append(warnings, p.Warnings...)
+		notes = append(notes, p.Notes...)
 		if w := t.BottomMismatch(p.Geometry.Bottom(), p.Source()); w != "" {
 			warnings = append(warnings, w)
 		}
 		in.Ground, in.Geometry = p.Ground, f.geometry()
-		in.Site = siteWith(p.Site, f.site).Name
 	}
 	figs, w, err := plotting.DrawRating(in)
 	if err != nil {
@@ -122,8 +145,21 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if dir == "" {
 		dir = filepath.Dir(path)
 	}
-	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: append(warnings, w...),
+	return e.deliver(delivery{output: "-", inputs: inputs, plots: dir, figs: figs, warnings: append(warnings, w...), notes: notes,
 		write: func(io.Writer) error { return nil }})
+}
+
+// figureSite is the site titling a redrawn rating: --site (flag) when
+// given, else the site of the section's survey, else the site a results
+// workbook's summary holds (summary).
+func figureSite(summary string, p *survey.Prepared, flag string) string {
+	switch {
+	case flag != "":
+		return flag
+	case p != nil && p.Site.Name != "":
+		return p.Site.Name
+	}
+	return summary
 }
 
 // sheets sorts out which file --sheet names: the survey's when --section

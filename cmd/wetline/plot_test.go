@@ -244,7 +244,7 @@ func TestPlotSheets(t *testing.T) {
 		code   int
 		errHas string // "" for success
 	}{
-		{"first sheet is no table", []string{book}, 1, `['summary'] row 1: stage: missing column`},
+		{"first sheet a results summary: its rating sheet", []string{book}, 0, ""},
 		{"--sheet names the table's", []string{book, "--sheet", "rating"}, 0, ""},
 		{"--sheet with a survey CSV", []string{book, "--section", survey, "--sheet", "rating"}, 0, ""},
 		{"--table-sheet", []string{book, "--table-sheet", "rating"}, 0, ""},

@@ -44,6 +44,9 @@ type historyFlags struct {
 	// and decided what set it (see unitsDecided).
 	unitSystem rating.Units
 	decided    unitsDecided
+	// notes are the input notes of the ratings read (see
+	// unitsDecided.takeTable), for the report's provenance.
+	notes []string
 }
 
 func (hf *historyFlags) register(fs *flagSet) {
@@ -174,8 +177,12 @@ func (hf *historyFlags) history(fs *flagSet) (gauged.History, []string, []string
 		if err != nil {
 			return h, nil, nil, err
 		}
-		if err := d.take(ds.Units, hf.shifts); err != nil {
+		note, err := d.takeTable(ds.Units, hf.shifts)
+		if err != nil {
 			return h, nil, nil, err
+		}
+		if note != "" {
+			hf.notes = append(hf.notes, note)
 		}
 		h.Shifts = ds.Diagrams
 		inputs, warnings = append(inputs, hf.shifts), append(warnings, ds.Warnings...)
@@ -242,8 +249,12 @@ func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided
 	if err != nil {
 		return nil, "", nil, zeroFlowAbove(hf.cmd, opt, err)
 	}
-	if err := d.take(rt.Units, spec.path); err != nil {
+	note, err := d.takeTable(rt.Units, spec.path)
+	if err != nil {
 		return nil, "", nil, err
+	}
+	if note != "" {
+		hf.notes = append(hf.notes, note)
 	}
 	if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
 		return nil, "", nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
@@ -437,7 +448,7 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 	return e.deliver(delivery{output: f.output, inputs: res.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, res, tables) },
 		inline: format == "text" || format == "json", warnings: append(append([]string(nil), res.Warnings...), "provisional: "+record.ProvisionalNote),
-		plots: f.plots, figs: res.Figures,
+		notes: res.Provenance.Notes, plots: f.plots, figs: res.Figures,
 		summary: func(w io.Writer) error { return results.WriteRecordSummary(w, res, f.output) }})
 }
 
@@ -494,7 +505,7 @@ func (f *recordFlags) compute(fs *flagSet, path, format string, tables results.R
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
 	res.Name = filepath.Base(path)
-	res.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(site, f.site)}
+	res.Provenance = rating.Provenance{Program: program(), Inputs: inputs, Site: siteWith(site, f.site), Notes: f.notes}
 	res.Warnings = append(warnings, res.Warnings...)
 	return res, nil
 }

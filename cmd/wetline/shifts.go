@@ -89,7 +89,7 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	}[format]
 	err = e.deliver(delivery{output: f.output, inputs: c.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, c) },
-		inline: format == "text" || format == "json", warnings: c.Warnings, plots: f.plots, figs: c.Figures,
+		inline: format == "text" || format == "json", warnings: c.Warnings, notes: c.Provenance.Notes, plots: f.plots, figs: c.Figures,
 		summary: func(w io.Writer) error { return results.WriteShiftsSummary(w, c, f.output) }})
 	if err == nil && f.proposed != "" {
 		_, err = fmt.Fprintf(e.stderr, "wrote %s: the proposed shift diagrams, to edit and give back with --shifts\n", f.proposed)
@@ -125,7 +125,7 @@ func (f *shiftsFlags) check(fs *flagSet, path string) (*gauged.ShiftCheck, error
 	if err != nil {
 		return nil, usageError{err: err}
 	}
-	c.Provenance = rating.Provenance{Program: program(), Inputs: append([]string{path}, inputs...), Site: siteWith(gs.Site, f.site)}
+	c.Provenance = rating.Provenance{Program: program(), Inputs: append([]string{path}, inputs...), Site: siteWith(gs.Site, f.site), Notes: f.notes}
 	c.Warnings = append(append(warnings, gs.Warnings...), c.Warnings...)
 	return &c, nil
 }

@@ -66,6 +66,19 @@ func (f *solveFlags) check(fs *flagSet) error {
 	return err
 }
 
+// roughUse says what the query takes from the section's n: nothing for
+// an area; only alpha for critical flow without a slope; else Manning's
+// equation.
+func (f *solveFlags) roughUse() survey.RoughUse {
+	switch {
+	case !math.IsNaN(f.q.Area):
+		return survey.RoughUnused
+	case f.slope > 0:
+		return survey.RoughNeeded
+	}
+	return survey.RoughAlphaOnly
+}
+
 func runSolve(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("solve", solveUsage)
 	var f solveFlags
@@ -76,8 +89,13 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 	if err := f.check(fs); err != nil {
 		return err
 	}
-	p, err := f.prepare(fs.Arg(0))
+	req, err := f.request(fs.Arg(0))
 	if err != nil {
+		return err
+	}
+	req.Roughless = f.roughUse()
+	p, err := survey.Prepare(req)
+	if err = f.requestError(err); err != nil {
 		return err
 	}
 	c, _ := rating.ParseComposite(f.composite)

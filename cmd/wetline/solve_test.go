@@ -164,3 +164,34 @@ func TestShapeSurveyUnits(t *testing.T) {
 		t.Errorf("--units si on a feet survey: exit %d: %s", code, errs)
 	}
 }
+
+// TestSolveWithoutN: n enters only through conveyance, so a built shape
+// needs none for a stage at a flow area, nor for critical flow in a shape
+// of one region (alpha is 1 whatever n is); Manning's equation (--slope)
+// and a compound shape's alpha still need it. Closed forms for the
+// trapezoid bottom 3 m, sides 2:1 (Chow 1959, table 2-1 and eq. 4-4):
+// A = (3 + 2y)·y = 10 m² at y = (−3 + √89)/4 = 1.6085 m; at y = 1 m,
+// A = 5 m², T = 7 m and Qc = √(9.80665·5³/7) = 13.233 m³/s.
+func TestSolveWithoutN(t *testing.T) {
+	t.Parallel()
+	trap := "trapezoid:bottom=3,side=2"
+	for _, tc := range []struct {
+		name string
+		args []string
+		code int
+		want string
+	}{
+		{"area", []string{"--shape", trap, "--area", "10"}, 0, "held at stage 1.6085 m"},
+		{"critical at a stage", []string{"--shape", trap, "--stage", "1"}, 0, "critical discharge is 13.23 m3/s"},
+		{"critical stage of a discharge", []string{"--shape", trap, "--discharge", "13.233"}, 0, "critical stage 1.0000 m"},
+		{"uniform flow", []string{"--shape", trap, "--stage", "1", "--slope", "0.001"}, 2, "needs Manning's n (--n) for Manning's equation"},
+		{"normal stage", []string{"--shape", trap, "--discharge", "10", "--slope", "0.001"}, 2, "needs Manning's n"},
+		{"compound critical", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--stage", "2.5"}, 2, "alpha weighs its floodplains"},
+		{"compound area", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--area", "8"}, 0, "held at stage 2.0000 m"},
+	} {
+		out, errs, code := runCLI(t, append([]string{"solve"}, tc.args...)...)
+		if code != tc.code || !strings.Contains(out+errs, tc.want) {
+			t.Errorf("%s: exit %d, output %q %q; want exit %d and %q", tc.name, code, out, errs, tc.code, tc.want)
+		}
+	}
+}

@@ -55,3 +55,25 @@ func (d *unitsDecided) take(note survey.UnitNote, file string) error {
 	d.Units, d.by = d.src.Units(), "the headers of "+d.src.File
 	return nil
 }
+
+// takeTable is take for a table of the kind wetline writes (a rating),
+// whose CSV carries no units: it also returns the input note of such a
+// table read in si units by default (see unitsAssumed).
+func (d *unitsDecided) takeTable(note survey.UnitNote, file string) (string, error) {
+	set := d.fixed || (d.Given && d.src.Note.Found)
+	if err := d.take(note, file); err != nil {
+		return "", err
+	}
+	return unitsAssumed(file, note, set), nil
+}
+
+// unitsAssumed is the one place deciding the input note of a table whose
+// headers name no unit: when nothing else set the units (set: --units,
+// or the headers of an input read before it), the table was read in si
+// units by default, which survey.UnitsAssumedNote says; else "".
+func unitsAssumed(file string, n survey.UnitNote, set bool) string {
+	if n.Found || set {
+		return ""
+	}
+	return survey.UnitsAssumedNote(file)
+}

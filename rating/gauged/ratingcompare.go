@@ -59,6 +59,18 @@ type RatingComparison struct {
 	Figures []rating.Figure
 }
 
+// MaxPercentSigned is the percent difference 100·(B − A)/A of the row at
+// MaxStage, with its sign (MaxPercent is its size): negative where B
+// gives less than A. NaN when no row has a percent difference.
+func (c *RatingComparison) MaxPercentSigned() float64 {
+	for _, r := range c.Rows {
+		if r.Stage == c.MaxStage && !math.IsNaN(r.Percent) {
+			return r.Percent
+		}
+	}
+	return c.MaxPercent
+}
+
 // Extrapolation is the part of a comparison's common range where one
 // table lies above its highest gauging.
 type Extrapolation struct {

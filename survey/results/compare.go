@@ -399,14 +399,7 @@ func LargestDifference(c *gauged.RatingComparison) string {
 	}
 	out := fmt.Sprintf("%s %s at %s %s%s", sig(c.MaxDifference, 4), Q, FormatLength(c.MaxDifferenceStage), L, pct)
 	if !math.IsNaN(c.MaxPercent) && c.MaxStage != c.MaxDifferenceStage {
-		p := c.MaxPercent // its size; the row at MaxStage gives its sign
-		for _, r := range c.Rows {
-			if r.Stage == c.MaxStage && !math.IsNaN(r.Percent) {
-				p = r.Percent
-				break
-			}
-		}
-		out += fmt.Sprintf("; in percent, %s %% at %s %s", fixed(p, 2), FormatLength(c.MaxStage), L)
+		out += fmt.Sprintf("; in percent, %s %% at %s %s", fixed(c.MaxPercentSigned(), 2), FormatLength(c.MaxStage), L)
 	}
 	return out
 }

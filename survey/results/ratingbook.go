@@ -15,8 +15,8 @@ import (
 
 // Sheet names of a results workbook, in order.
 const (
-	SheetSummary     = "summary"
-	SheetRating      = "rating"
+	SheetSummary     = survey.SheetResultsSummary
+	SheetRating      = survey.SheetResultsRating
 	SheetLookup      = "lookup"
 	SheetSubsections = "subsections"
 	SheetSurvey      = "survey"

@@ -69,9 +69,6 @@ func WriteRatingSummary(w io.Writer, rep rating.RatingReport, path string) error
 			lo.Stage, hi.Stage, u.Length(), rating.PlainFigures(lo.Discharge, 4), rating.PlainFigures(hi.Discharge, 4), u.Discharge())
 	}
 	fmt.Fprintf(bw, " (slope %g, %s units)\n", t.Slope, u)
-	for _, n := range rep.Provenance.Notes {
-		fmt.Fprintf(bw, "input: %s\n", n)
-	}
 	return endSummary(bw, rep.Warnings)
 }
 
