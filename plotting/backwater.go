@@ -260,6 +260,13 @@ func criticalGlyph() draw.GlyphStyle {
 	return draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}}
 }
 
+// unsettledGlyph is the marker of a rating read still depending on the
+// downstream boundary, in the backwater rating figure and in a redrawn
+// table alike.
+func unsettledGlyph() draw.GlyphStyle {
+	return draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4), Shape: draw.RingGlyph{}}
+}
+
 // profileXYs returns a profile's water surface and, for the verified
 // profile, its energy grade line, downstream in distance; stages at
 // critical depth are added to crit and every value drawn to ext.
@@ -439,7 +446,7 @@ func comparePanel(r RatingComparison) (*plot.Plot, figure, Result, error) {
 	}
 	if len(marked) > 0 {
 		if sc, err := plotter.NewScatter(marked); err == nil {
-			sc.GlyphStyle = draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4), Shape: draw.RingGlyph{}}
+			sc.GlyphStyle = unsettledGlyph()
 			p.Add(sc)
 			p.Legend.Add(orDefault(r.MarkedLabel, "marked reads"), sc)
 		}

@@ -41,11 +41,9 @@ func markedFlags() []string {
 func flagGlyph(flag string) (draw.GlyphStyle, string) {
 	switch flag {
 	case reach.FlagUnsettled:
-		return draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4), Shape: draw.RingGlyph{}},
-			"still depending on the boundary (unsettled)"
+		return unsettledGlyph(), "still depending on the boundary (unsettled)"
 	case reach.FlagCriticalStage:
-		return draw.GlyphStyle{Color: colEnergy, Radius: vg.Points(4.5), Shape: draw.CrossGlyph{}},
-			"stage at critical depth (critical_stage)"
+		return criticalGlyph(), "stage at critical depth (critical_stage)"
 	}
 	return draw.GlyphStyle{Color: colBank, Radius: vg.Points(3.5), Shape: draw.SquareGlyph{}},
 		"above an end of the section (above_end)"
