@@ -263,17 +263,7 @@ func addFlagMarks(p *plot.Plot, marks []FlagMark, e float64, logv bool) {
 		p.Y.Max += markerPad * (p.Y.Max - p.Y.Min)
 	}
 	for _, m := range marks {
-		var xy plotter.XYs
-		for _, q := range m.Points {
-			y := q.Stage
-			if logv {
-				y -= e
-				if !(y > 0 && q.Discharge > 0) {
-					continue
-				}
-			}
-			xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
-		}
+		xy := panelXYs(m.Points, e, logv)
 		if len(xy) == 0 {
 			continue
 		}
@@ -526,10 +516,9 @@ func addBands(p *plot.Plot, total, band []BandPoint, totalLabel, bandLabel strin
 	}
 }
 
-// addStyledCurve draws a curve in one line style (on the log panel:
-// discharge against stage − e, positive values only), labelled in the
-// legend when label is not empty. It returns the number of points drawn.
-func addStyledCurve(p *plot.Plot, pts []RatingPoint, label string, style draw.LineStyle, e float64, logv bool) int {
+// panelXYs are the points of a rating panel: discharge against stage, or
+// on the log panel (logv) against stage − e, positive values only.
+func panelXYs(pts []RatingPoint, e float64, logv bool) plotter.XYs {
 	var xy plotter.XYs
 	for _, q := range pts {
 		y := q.Stage
@@ -541,6 +530,14 @@ func addStyledCurve(p *plot.Plot, pts []RatingPoint, label string, style draw.Li
 		}
 		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
 	}
+	return xy
+}
+
+// addStyledCurve draws a curve in one line style (on the log panel:
+// discharge against stage − e, positive values only), labelled in the
+// legend when label is not empty. It returns the number of points drawn.
+func addStyledCurve(p *plot.Plot, pts []RatingPoint, label string, style draw.LineStyle, e float64, logv bool) int {
+	xy := panelXYs(pts, e, logv)
 	if len(xy) < 2 {
 		return 0
 	}

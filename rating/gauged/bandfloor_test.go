@@ -20,14 +20,7 @@ import (
 // fall as the stage rises. Gaugings: invented, from Q = 5·(h − 0.3)^1.7
 // with seeded noise of a good gauging's band.
 func TestBandFloor(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 11))
-	var gs []gauged.Gauging
-	for i := range 12 {
-		h := 0.45 + 0.18*float64(i)
-		g := gauged.Gauging{Stage: h, Discharge: 5 * math.Pow(h-0.3, 1.7), Quality: rating.Good}
-		g.Discharge *= math.Exp(g.LogSigma() * rng.NormFloat64())
-		gs = append(gs, g)
-	}
+	gs := floorGaugings()
 	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -82,14 +75,7 @@ func TestBandFloor(t *testing.T) {
 // bound of 6783 m³/s at 1 mm above e on these gaugings, closed form as in
 // TestBandFloor); above it the band holds the fitted discharge.
 func TestFitBandFloor(t *testing.T) {
-	rng := rand.New(rand.NewPCG(7, 11))
-	var gs []gauged.Gauging
-	for i := range 12 {
-		h := 0.45 + 0.18*float64(i)
-		g := gauged.Gauging{Stage: h, Discharge: 5 * math.Pow(h-0.3, 1.7), Quality: rating.Good}
-		g.Discharge *= math.Exp(g.LogSigma() * rng.NormFloat64())
-		gs = append(gs, g)
-	}
+	gs := floorGaugings()
 	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -109,4 +95,18 @@ func TestFitBandFloor(t *testing.T) {
 			t.Errorf("at %g: discharge %g outside its band %g to %g", h, q, lo, hi)
 		}
 	}
+}
+
+// floorGaugings are the band-floor tests' gaugings: invented, from
+// Q = 5·(h − 0.3)^1.7 with seeded noise of a good gauging's band.
+func floorGaugings() []gauged.Gauging {
+	rng := rand.New(rand.NewPCG(7, 11))
+	var gs []gauged.Gauging
+	for i := range 12 {
+		h := 0.45 + 0.18*float64(i)
+		g := gauged.Gauging{Stage: h, Discharge: 5 * math.Pow(h-0.3, 1.7), Quality: rating.Good}
+		g.Discharge *= math.Exp(g.LogSigma() * rng.NormFloat64())
+		gs = append(gs, g)
+	}
+	return gs
 }
