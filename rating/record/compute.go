@@ -261,6 +261,10 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	}
 	missing := st.Missing
 	st, units, codes, dropped := rateReadings(st, r, zone(off))
+	if len(st.Time) == 0 { // every reading read as a missing-value code
+		return nil, fmt.Errorf("%w: %s; so every reading is missing. Are the stage record and the rating on the same gauge datum "+
+			"(a rating of elevations needs the gauge's datum), and in the same unit?", ErrNoDischarge, codes)
+	}
 	res := &Result{
 		Name: st.Name, Units: units, Missing: missingValues(missing, dropped), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,

@@ -556,6 +556,11 @@ func TestReadingsOutsideRating(t *testing.T) {
 	if _, err := Compute(stages(0, 5, 1, 5), none, Options{}); !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "2 of 2 readings have no rating in force") {
 		t.Errorf("no rating: %v", err)
 	}
+	// Every reading far below the table (missing-value codes, or gauge
+	// heights on a rating of elevations): refused, never a panic.
+	if _, err := Compute(stages(0, -9999, 1, -9999), r, Options{}); !errors.Is(err, ErrNoDischarge) || !strings.Contains(err.Error(), "every reading is missing") {
+		t.Errorf("all missing-value codes: %v", err)
+	}
 }
 
 // TestMissingReadings: the record's missing readings (times without a
