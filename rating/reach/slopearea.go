@@ -81,7 +81,11 @@ func (s Side) String() string {
 	return "mean"
 }
 
-// ParseSide reads "mean", "left" or "right" (any case; "" is mean).
+// ErrSide is the cause of a side that is not mean, left or right.
+var ErrSide = errors.New("the side of the marks must be mean, left or right")
+
+// ParseSide reads "mean", "left" or "right" (any case; "" is mean);
+// another word is an error wrapping ErrSide.
 func ParseSide(s string) (Side, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {
 	case "", "mean", "both":
@@ -91,7 +95,7 @@ func ParseSide(s string) (Side, error) {
 	case "right":
 		return RightSide, nil
 	}
-	return MeanSide, fmt.Errorf("side %q: want mean, left or right", s)
+	return MeanSide, fmt.Errorf("%w, not %q", ErrSide, s)
 }
 
 // Section is one surveyed section of a slope-area reach.

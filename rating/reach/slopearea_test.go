@@ -404,8 +404,8 @@ func TestParseSide(t *testing.T) {
 			t.Errorf("ParseSide(%q) = %v, %v", in, got, err)
 		}
 	}
-	if _, err := ParseSide("middle"); err == nil {
-		t.Error("ParseSide(middle): no error")
+	if _, err := ParseSide("middle"); !errors.Is(err, ErrSide) {
+		t.Errorf("ParseSide(middle): err = %v, want ErrSide", err)
 	}
 }
 
