@@ -85,12 +85,13 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 		}
 		return fmt.Errorf("%w; nothing was written, so %s", sum.Err("above"), untouched(f))
 	}
-	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where, f.long); err != nil {
-		return err
-	}
-	note := "above"
+	index, note := "", "above"
 	if !f.long {
-		note = "in " + filepath.Join(f.output, batch.IndexFile)
+		index = filepath.Join(f.output, batch.IndexFile)
+		note = "in " + index
+	}
+	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where, index); err != nil {
+		return err
 	}
 	return sum.Err(note)
 }

@@ -329,6 +329,36 @@ func TestDemoBatch(t *testing.T) {
 	}
 }
 
+// TestBatchFolderWarnings rates the demo's reach folder into a folder: the
+// sections' warnings (pockets behind higher ground at tallow-xs1 and
+// tallow-xs3, the demo's invented ground) are on standard error, each
+// after its section, as a CSV table's warnings are (README, Outputs), and
+// still in the index's warnings column.
+func TestBatchFolderWarnings(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	out := filepath.Join(t.TempDir(), "reach-ratings")
+	_, errs, code := runCLI(t, "rate", filepath.Join(dir, "tallow-reach"), "--slope", "0.0012", "-o", out)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	idx := readCSV(t, filepath.Join(out, "index.csv"))
+	for _, r := range idx[1:] {
+		ws := r[8]
+		if (r[0] == "tallow-xs2") != (ws == "") {
+			t.Errorf("index: %s has warnings %q", r[0], ws)
+		}
+		for _, w := range strings.Split(ws, " | ") {
+			if w != "" && !strings.Contains(errs, "warning: "+r[0]+": "+w+"\n") {
+				t.Errorf("stderr lacks %s's warning %q:\n%s", r[0], w, errs)
+			}
+		}
+	}
+	if !strings.Contains(errs, "pockets behind higher ground") {
+		t.Errorf("stderr names no pocket:\n%s", errs)
+	}
+}
+
 // TestBatchMissingFile lists a survey that cannot be opened as a failed
 // section; the others are still rated, and no table is written.
 func TestBatchMissingFile(t *testing.T) {

@@ -35,11 +35,8 @@ func commandFlags(ctx context.Context, cmds map[string]command) (map[string][]st
 // after wetline, each command's flags after it, file names elsewhere.
 func runCompletion(ctx context.Context, e *env, args []string) error {
 	if len(args) == 1 && (args[0] == "-h" || args[0] == "--help") {
-		_, err := fmt.Fprintf(e.stdout, "Usage: wetline %s\n\nPrint a shell completion script. For bash: source <(wetline completion bash); for zsh: source <(wetline completion zsh).\n", completionUsage)
-		if err != nil {
-			return err
-		}
-		return errHelp
+		b, _ := findBuiltin("completion")
+		return b.printHelp(e.stdout)
 	}
 	if len(args) != 1 || (args[0] != "bash" && args[0] != "zsh") {
 		return usageError{err: fmt.Errorf("completion: want bash or zsh"), cmd: "completion"}
@@ -65,7 +62,7 @@ func runCompletion(ctx context.Context, e *env, args []string) error {
 	for _, n := range names {
 		fmt.Fprintf(&b, "\t%s) opts=\"%s\" ;;\n", n, strings.Join(flags[n], " "))
 	}
-	b.WriteString("\thelp) COMPREPLY=($(compgen -W \"" + strings.Join(names, " ") + "\" -- \"$cur\")); return ;;\n")
+	b.WriteString("\thelp) COMPREPLY=($(compgen -W \"" + strings.Join(names, " ") + " help version completion\" -- \"$cur\")); return ;;\n")
 	b.WriteString("\tcompletion) COMPREPLY=($(compgen -W \"bash zsh\" -- \"$cur\")); return ;;\n")
 	b.WriteString("\t*) opts=\"\" ;;\n\tesac\n")
 	b.WriteString("\tif [[ \"$cur\" == -* ]]; then\n\t\tCOMPREPLY=($(compgen -W \"$opts\" -- \"$cur\"))\n\telse\n\t\tCOMPREPLY=($(compgen -f -- \"$cur\"))\n\tfi\n}\n")

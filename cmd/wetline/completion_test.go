@@ -59,3 +59,36 @@ func TestHelpCommand(t *testing.T) {
 		t.Errorf("usage error: exit %d %q", code, errs)
 	}
 }
+
+// TestHelpEveryListedCommand walks the commands 'wetline help' lists and
+// asks 'wetline help NAME' and 'wetline NAME --help' of each: both print
+// its usage and exit 0, as the list's own help line promises.
+func TestHelpEveryListedCommand(t *testing.T) {
+	t.Parallel()
+	list, _, code := runCLI(t, "help")
+	if code != 0 {
+		t.Fatalf("help: exit %d", code)
+	}
+	_, body, ok := strings.Cut(list, "\nCommands:\n")
+	if !ok {
+		t.Fatalf("help has no Commands: list:\n%s", list)
+	}
+	body, _, _ = strings.Cut(body, "\n\n")
+	var names []string
+	for _, line := range strings.Split(body, "\n") {
+		if f := strings.Fields(line); len(f) > 0 {
+			names = append(names, f[0])
+		}
+	}
+	if len(names) < len(commandTable())+len(builtinCommands) {
+		t.Fatalf("help lists %d commands %v, want the %d of the table and %v", len(names), names, len(commandTable()), builtinCommands)
+	}
+	for _, n := range names {
+		for _, args := range [][]string{{"help", n}, {n, "--help"}} {
+			out, errs, code := runCLI(t, args...)
+			if code != 0 || !strings.HasPrefix(out, "Usage: wetline "+n) {
+				t.Errorf("wetline %s: exit %d, stdout %q, stderr %q; want its usage", strings.Join(args, " "), code, out, errs)
+			}
+		}
+	}
+}

@@ -218,6 +218,13 @@ func run(ctx context.Context, e *env, args []string) error {
 	switch name {
 	case "help", "-h", "--help":
 		if len(args) > 1 {
+			topic := args[1]
+			if topic == "-h" || topic == "--help" {
+				topic = "help"
+			}
+			if b, ok := findBuiltin(topic); ok {
+				return b.printHelp(e.stdout)
+			}
 			c, ok := e.commands[args[1]]
 			if !ok {
 				return usagef("help: unknown command %q", args[1])
@@ -226,6 +233,13 @@ func run(ctx context.Context, e *env, args []string) error {
 		}
 		return printUsage(e.stdout, e.commands)
 	case "version", "--version":
+		if len(args) > 1 {
+			if args[1] == "-h" || args[1] == "--help" {
+				b, _ := findBuiltin("version")
+				return b.printHelp(e.stdout)
+			}
+			return usageError{err: fmt.Errorf("version: takes no arguments, got %q", args[1]), cmd: "version"}
+		}
 		_, err := fmt.Fprintln(e.stdout, program())
 		return err
 	case "completion":
@@ -265,9 +279,9 @@ func printUsage(w io.Writer, cmds map[string]command) error {
 	for _, n := range names {
 		fmt.Fprintf(&b, "  %-10s %s\n", n, cmds[n].summary)
 	}
-	b.WriteString("  help       show this list, or 'wetline help COMMAND' a command's flags\n")
-	b.WriteString("  version    print the program's version (also --version)\n")
-	b.WriteString("  completion print a shell completion script: 'wetline completion bash' or 'zsh'\n")
+	for _, c := range builtins() {
+		fmt.Fprintf(&b, "  %-10s %s\n", c.name, c.summary)
+	}
 	b.WriteString("\nRun 'wetline COMMAND --help' for a command's flags. An input file named - is\n")
 	b.WriteString("standard input; -o - writes to standard output.\n")
 	b.WriteString("\nExit status: 0 success, 1 input data or a file could not be used (nothing is\n")
@@ -276,4 +290,40 @@ func printUsage(w io.Writer, cmds map[string]command) error {
 	b.WriteString("\nCaution: " + rating.Caution + "\n")
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// builtin is a command run handles itself, outside the command table: its
+// name, its line in the list of commands, its usage line and what it does.
+type builtin struct{ name, summary, usage, about string }
+
+// builtins lists the commands run handles itself, in the order the list
+// of commands shows them.
+func builtins() []builtin {
+	return []builtin{
+		{"help", "show this list, or 'wetline help COMMAND' a command's flags", "help [COMMAND]",
+			"Without COMMAND, list the commands; with one, print its usage and every flag with its default (as 'wetline COMMAND --help' does)."},
+		{"version", "print the program's version (also --version)", "version",
+			"Print the program's name and version, as every report states them."},
+		{"completion", "print a shell completion script: 'wetline completion bash' or 'zsh'", completionUsage,
+			"Print a shell completion script. For bash: source <(wetline completion bash); for zsh: source <(wetline completion zsh)."},
+	}
+}
+
+// findBuiltin returns the builtin command called name.
+func findBuiltin(name string) (builtin, bool) {
+	for _, b := range builtins() {
+		if b.name == name {
+			return b, true
+		}
+	}
+	return builtin{}, false
+}
+
+// printHelp prints the builtin's usage line and what it does to w, and
+// returns errHelp (or the error of the write).
+func (b builtin) printHelp(w io.Writer) error {
+	if _, err := fmt.Fprintf(w, "Usage: wetline %s\n\n%s\n", b.usage, b.about); err != nil {
+		return err
+	}
+	return errHelp
 }

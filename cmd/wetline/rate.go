@@ -31,7 +31,7 @@ type rateFlags struct {
 	long           bool
 }
 
-const rateUsage = "rate (SURVEY | --shape SPEC) --slope S [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--from H1 --to H2 --step D | --stages h1,h2,...] [--units si|us] [--all-pools] [--format csv|json|text|xlsx] [-o FILE] [--datum D] [--calibrate GAUGINGS [--channel-only]] [--plots DIR] [--site NAME]"
+const rateUsage = "rate (SURVEY ... | FOLDER | --shape SPEC) --slope S [--from H1 --to H2 --step D | --stages h1,h2,...] [--n N | --n LEFT,CHANNEL,RIGHT] [--banks A,B] [--composite M] [--datum D] [--calibrate GAUGINGS [--channel-only]] [--all-pools] [--no-extend] [--units si|us] [--format csv|json|text|xlsx] [-o FILE|DIR] [--plots DIR] [--site NAME]; a batch: [--all-sheets] (-o DIR | --long [-o FILE])"
 
 func (f *rateFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)

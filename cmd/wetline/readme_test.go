@@ -167,7 +167,7 @@ func TestReadmeFlagsExist(t *testing.T) {
 	t.Parallel()
 	flags := readmeCommandFlags(t)
 	text := readme(t)
-	for _, u := range readmeCodeLines(text, false) {
+	for _, u := range readmeCodeLines(text, everyBlock) {
 		words := strings.Fields(u)
 		f, ok := flags[words[1]]
 		if !ok {
@@ -191,11 +191,18 @@ func TestReadmeFlagsExist(t *testing.T) {
 	}
 }
 
-// readmeCodeLines returns the commands of the README's code blocks: lines
-// starting "wetline " (a "$ " prompt dropped, continuation lines joined:
-// after a backslash, or indented under a usage line), from the runnable sh
-// blocks only when runnable, else from every block.
-func readmeCodeLines(text string, runnable bool) []string {
+// Kinds of README code block readmeCodeLines reads.
+const (
+	everyBlock    = ""      // every code block
+	runnableBlock = "sh"    // the sh blocks: examples that run in the demo folder
+	synopsisBlock = "usage" // the other blocks: a command's synopsis
+)
+
+// readmeCodeLines returns the commands of the README's code blocks of a
+// kind (everyBlock, runnableBlock or synopsisBlock): lines starting
+// "wetline " (a "$ " prompt dropped, continuation lines joined: after a
+// backslash, or indented under a usage line).
+func readmeCodeLines(text, kind string) []string {
 	var out []string
 	in, sh, usage := false, false, false
 	var cont string
@@ -204,7 +211,7 @@ func readmeCodeLines(text string, runnable bool) []string {
 			in, sh, usage = !in, strings.TrimPrefix(line, "```") == "sh", false
 			continue
 		}
-		if !in || (runnable && !sh) {
+		if !in || (kind == runnableBlock && !sh) || (kind == synopsisBlock && sh) {
 			continue
 		}
 		if usage && !sh && strings.HasPrefix(line, " ") {
@@ -333,7 +340,7 @@ func TestReadmeExamples(t *testing.T) {
 		t.Fatal(err)
 	}
 	flags := readmeCommandFlags(t)
-	lines := readmeCodeLines(readme(t), true)
+	lines := readmeCodeLines(readme(t), runnableBlock)
 	if len(lines) < 15 {
 		t.Fatalf("found %d example commands in the README: the sh blocks are not being read", len(lines))
 	}
@@ -425,6 +432,133 @@ func TestReadmeJSONKeys(t *testing.T) {
 	for name := range readmeJSONReports {
 		if !seen[name] {
 			t.Errorf("README Outputs has no row for the %s report", name)
+		}
+	}
+}
+
+// sharedSynopsisFlags are the flags a README synopsis may leave out though
+// the help's usage line names them: README's "What every command shares"
+// says which commands take them.
+var sharedSynopsisFlags = map[string]bool{"site": true, "units": true}
+
+// synopsisFlag matches a flag of a synopsis: a long name, or a shorthand
+// (as -o).
+var synopsisFlag = regexp.MustCompile(`(?:^|[\s(\[|])-(?:-([a-z][a-z0-9-]*)|([a-zA-Z]))\b`)
+
+// synopsisFlags returns the flags a synopsis names (shorthands by their
+// long name) and, for each, whether it stands outside every bracket
+// somewhere (as if it must be given).
+func synopsisFlags(line string, f cliFlags) map[string]bool {
+	out := map[string]bool{}
+	depth := 0
+	for i := 0; i < len(line); i++ {
+		switch line[i] {
+		case '[':
+			depth++
+		case ']':
+			depth--
+		}
+		m := synopsisFlag.FindStringSubmatchIndex(line[i:])
+		if m == nil || m[0] != 0 {
+			continue
+		}
+		name := ""
+		if m[2] >= 0 {
+			name = line[i+m[2] : i+m[3]]
+		} else {
+			short := line[i+m[4] : i+m[5]]
+			name = f.short[short]
+			if name == "" {
+				name = "-" + short // no such shorthand: reported by name
+			}
+		}
+		out[name] = out[name] || depth == 0
+		i += m[1] - 1
+	}
+	return out
+}
+
+// TestReadmeSynopsesMatchHelp checks each README synopsis against the
+// usage line of the command's help: every flag either names is one of the
+// command's, the two name the same flags (the synopsis may leave out
+// sharedSynopsisFlags), and a flag stands outside brackets, as one that
+// must be given, in both or in neither.
+func TestReadmeSynopsesMatchHelp(t *testing.T) {
+	t.Parallel()
+	flags := readmeCommandFlags(t)
+	seen := 0
+	for _, syn := range readmeCodeLines(readme(t), synopsisBlock) {
+		words := strings.Fields(syn)
+		name := words[1]
+		f, ok := flags[name]
+		if !ok {
+			continue // help, version, completion
+		}
+		seen++
+		out, _, code := runCLI(t, name, "--help")
+		usage, _, _ := strings.Cut(out, "\n")
+		usage, ok = strings.CutPrefix(usage, "Usage: wetline ")
+		if code != 0 || !ok {
+			t.Fatalf("%s --help: exit %d, first line %q", name, code, usage)
+		}
+		inReadme, inHelp := synopsisFlags(strings.TrimPrefix(syn, "wetline "), f), synopsisFlags(usage, f)
+		for flag, bare := range inHelp {
+			if _, ok := f.long[flag]; !ok && flag != "help" {
+				t.Errorf("%s --help: its usage line names --%s, which it does not have", name, flag)
+			}
+			readmeBare, ok := inReadme[flag]
+			switch {
+			case !ok && !sharedSynopsisFlags[flag]:
+				t.Errorf("README synopsis of %s lacks --%s, which its help's usage line names", name, flag)
+			case ok && bare != readmeBare:
+				t.Errorf("%s --%s: outside brackets in the help's usage line %v, in the README synopsis %v", name, flag, bare, readmeBare)
+			}
+		}
+		for flag := range inReadme {
+			if _, ok := f.long[flag]; !ok && flag != "help" {
+				t.Errorf("README synopsis of %s names --%s, which it does not have", name, flag)
+			}
+			if _, ok := inHelp[flag]; !ok {
+				t.Errorf("%s --help: its usage line lacks --%s, which the README synopsis names", name, flag)
+			}
+		}
+	}
+	if seen < 10 {
+		t.Fatalf("found %d README synopses: the usage blocks are not being read", seen)
+	}
+}
+
+// readmeSharedNot matches, in README's "What every command shares", a
+// shared flag and the commands it says lack it: "`--units si|us` (not
+// `cowan`, `demo`)".
+var readmeSharedNot = regexp.MustCompile("`--([a-z-]+)[^`]*` \\(not\\s+((?:`[a-z]+`(?:,\\s+)?)+)")
+
+// TestReadmeSharedFlags checks the README says, for each flag "What every
+// command shares" lists that not every command has, exactly which
+// commands lack it.
+func TestReadmeSharedFlags(t *testing.T) {
+	t.Parallel()
+	flags := readmeCommandFlags(t)
+	text := readme(t)
+	_, shared, _ := strings.Cut(text, "What every command shares:")
+	shared, _, _ = strings.Cut(shared, "\n###")
+	said := map[string][]string{}
+	for _, m := range readmeSharedNot.FindAllStringSubmatch(shared, -1) {
+		for _, n := range strings.Split(m[2], ",") {
+			said[m[1]] = append(said[m[1]], strings.Trim(strings.TrimSpace(n), "`"))
+		}
+	}
+	for _, flag := range []string{"sheet", "plots", "site", "units"} {
+		var lack []string
+		for name, f := range flags {
+			if _, ok := f.long[flag]; !ok {
+				lack = append(lack, name)
+			}
+		}
+		sort.Strings(lack)
+		got := slices.Sorted(slices.Values(said[flag]))
+		if !slices.Equal(got, lack) {
+			t.Errorf("README's shared --%s: says not %v, the commands without it are %v", flag, got, lack)
 		}
 	}
 }

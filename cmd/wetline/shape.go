@@ -12,7 +12,7 @@ import (
 	"wetline/survey"
 )
 
-const shapeUsage = "shape SPEC --n N [--units si|us] [--site NAME] [-o FILE]   (SPEC: " + subdivide.ShapeForms + ")"
+const shapeUsage = "shape SPEC [--n N | --n LEFT,CHANNEL,RIGHT] [--units si|us] [--site NAME] [-o FILE]   (SPEC: " + subdivide.ShapeForms + ")"
 
 // runShape writes a built open shape as a survey CSV that can be edited
 // and read back by every command.

@@ -90,7 +90,7 @@ func (f *slopeAreaFlags) options(fs *flagSet) (reach.EstimateOptions, error) {
 	}
 	side, err := reach.ParseSide(f.side)
 	if err != nil {
-		return opt, usageError{err: err}
+		return opt, usageError{err: fmt.Errorf("slopearea: --side: %w", err)}
 	}
 	nErrors, err := reach.ParseNErrors(f.nErrors)
 	if err != nil {

@@ -102,7 +102,7 @@ func TestSlopeAreaBadReach(t *testing.T) {
 		{"distances not increasing", head + "A,a.csv,100,11,\nB,a.csv,100,10.9,\n", nil, 1, "reach.csv:3:3: distance \"100\""},
 		{"section above the water", head + "A,a.csv,0,11,\nB,high.csv,100,10.9,\n", nil, 1, "reach.csv:3:4"},
 		{"unknown survey file", head + "A,a.csv,0,11,\nB,gone.csv,100,10.9,\n", nil, 1, "reach.csv:3:2: survey \"gone.csv\""},
-		{"bad side", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--side", "middle"}, 2, "side"},
+		{"bad side", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--side", "middle"}, 2, `slopearea: --side: the side of the marks must be mean, left or right, not "middle"`},
 		{"slope with a reach", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--slope", "0.001"}, 2, "--slope"},
 		{"negative draws", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "-1"}, 2, "--draws"},
 		{"one draw", head + "A,a.csv,0,11,\nB,a.csv,100,10.9,\n", []string{"--draws", "1"}, 2, "--draws 1: want 0 (no band) or 100 to"},

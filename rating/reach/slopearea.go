@@ -38,9 +38,10 @@ const (
 	// in secondary sources).
 	MinSections = 3
 	// MaxConveyanceRatio bounds the ratio of the larger to the smaller
-	// conveyance of adjacent sections, 1/0.7 ≈ 1.43 (adjacent sections
-	// within a conveyance ratio of 0.7 to 1.4, common practice for
-	// energy-balance computations; from memory).
+	// conveyance of adjacent sections, 1/0.7 ≈ 1.429: Kd/Ku between 0.7
+	// and 1/0.7, this project's symmetric reading of the end-section
+	// conveyance-ratio guidance of Dalrymple & Benson (1967; from
+	// memory), applied to each subreach.
 	MaxConveyanceRatio = 1 / 0.7
 	// MaxFroude is the Froude number at or above which a section is
 	// flagged: the energy equation between sections assumes gradually
@@ -81,7 +82,11 @@ func (s Side) String() string {
 	return "mean"
 }
 
-// ParseSide reads "mean", "left" or "right" (any case; "" is mean).
+// ErrSide is the cause of a side that is not mean, left or right.
+var ErrSide = errors.New("the side of the marks must be mean, left or right")
+
+// ParseSide reads "mean", "left" or "right" (any case; "" is mean);
+// another word is an error wrapping ErrSide.
 func ParseSide(s string) (Side, error) {
 	switch strings.ToLower(strings.TrimSpace(s)) {
 	case "", "mean", "both":
@@ -91,7 +96,7 @@ func ParseSide(s string) (Side, error) {
 	case "right":
 		return RightSide, nil
 	}
-	return MeanSide, fmt.Errorf("side %q: want mean, left or right", s)
+	return MeanSide, fmt.Errorf("%w, not %q", ErrSide, s)
 }
 
 // Section is one surveyed section of a slope-area reach.
@@ -758,10 +763,13 @@ const (
 	// srcSubreachLength takes the share of MinReachDepths per subreach.
 	srcSubreachLength = "each subreach at least its equal share of the reach length, %.4g mean depths of its two sections " +
 		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
-	srcKRatio    = "conveyance ratio of adjacent sections within 0.7-1.4 (common practice; from memory)"
+	// srcKRatio takes MaxConveyanceRatio as printed, twice.
+	srcKRatio = "Kd/Ku between 0.7 and 1/0.7 = %s, checked as the larger conveyance over the smaller ≤ %s: " +
+		"the end-section guidance of Dalrymple & Benson 1967 (TWRI 3-A2; from memory), read symmetrically and applied to each subreach"
 	srcFroude    = "subcritical, gradually varied flow assumed (Chow 1959, 10-1); high Froude suggests n too low (Jarrett 1984, from memory)"
-	srcExpanding = "Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory); no change (uniform) passes"
-	srcMarks     = "left and right marks within the mark-spread tolerance (project default, common practice)"
+	srcExpanding = "a drop above 0, the velocity head falling downstream, means the subreach expands; below 0 it contracts; no change (uniform) passes. " +
+		"Dalrymple & Benson 1967 (TWRI 3-A2): contracting reaches preferred, expansion losses uncertain (from memory)"
+	srcMarks = "left and right marks within the mark-spread tolerance (project default, common practice)"
 )
 
 // saChecks evaluates the quality criteria of a solved reach and adds a
@@ -799,13 +807,14 @@ func saCheckList(res *SlopeArea) []Check {
 				ratio = 1 / ratio
 			}
 			cs = append(cs, Check{Name: "conveyance ratio " + sr.From + " to " + sr.To, Value: ratio,
-				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio, Source: srcKRatio})
+				Limit: MaxConveyanceRatio, Relation: "≤", Pass: ratio <= MaxConveyanceRatio,
+				Source: fmt.Sprintf(srcKRatio, saSig(MaxConveyanceRatio), saSig(MaxConveyanceRatio))})
 		}
 		for _, sr := range res.Subreaches {
 			// The value is the drop in velocity head downstream, hvu − hvd:
 			// above 0 the flow expands, 0 is uniform (within
 			// VelocityHeadTolerance), below 0 it contracts.
-			cs = append(cs, Check{Name: "velocity-head drop " + sr.From + " to " + sr.To, Value: sr.VelocityHeadChange,
+			cs = append(cs, Check{Name: "expansion " + sr.From + " to " + sr.To + " (velocity-head drop)", Value: sr.VelocityHeadChange,
 				Limit: 0, Relation: "≤", Pass: !sr.Expanding, Source: srcExpanding})
 		}
 	}

@@ -309,14 +309,14 @@ func TestSlopeAreaChecks(t *testing.T) {
 		}
 	}
 	for name, pass := range map[string]bool{
-		"mark spread A":              false,
-		"mark spread B":              true,
-		"velocity-head drop A to B":  false,
-		"reach length vs mean depth": false,
-		"fall A to B":                false, // fall 0.1 m < 0.15 m
-		"sections in the reach":      false, // two sections
-		"conveyance ratio A to B":    false, // widths 8 and 12
-		"froude A":                   true,
+		"mark spread A":                         false,
+		"mark spread B":                         true,
+		"expansion A to B (velocity-head drop)": false,
+		"reach length vs mean depth":            false,
+		"fall A to B":                           false, // fall 0.1 m < 0.15 m
+		"sections in the reach":                 false, // two sections
+		"conveyance ratio A to B":               false, // widths 8 and 12
+		"froude A":                              true,
 	} {
 		c, ok := got[name]
 		if !ok {
@@ -332,6 +332,43 @@ func TestSlopeAreaChecks(t *testing.T) {
 	}
 	if len(res.Warnings) < 5 {
 		t.Errorf("failing checks gave %d warnings: %q", len(res.Warnings), res.Warnings)
+	}
+}
+
+// TestSlopeAreaCheckWording reads the warnings of failed checks as a
+// user does: the one of an expanding subreach says the subreach expands,
+// and the conveyance ratio's quotes in its source the limit it was held
+// to (1/0.7, the symmetric reading of Dalrymple and Benson's 0.7, printed
+// to four figures as every value is).
+func TestSlopeAreaCheckWording(t *testing.T) {
+	secs := []Section{
+		{ID: "A", Geometry: saTrapezoid(t, 8, 0, 10, 5, 0.035), Distance: 0, Left: 12.15, Right: 11.85},
+		{ID: "B", Geometry: saTrapezoid(t, 12, 0, 9.9, 5, 0.035), Distance: 60, Left: 11.9, Right: 11.9},
+	}
+	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	warning := func(part string) string {
+		for _, w := range res.Warnings {
+			if strings.Contains(w, part) {
+				return w
+			}
+		}
+		t.Fatalf("no warning of %q among %q", part, res.Warnings)
+		return ""
+	}
+	if w := warning("velocity-head drop"); !strings.Contains(w, "A to B") || !strings.Contains(w, "expands") {
+		t.Errorf("expanding subreach: %q does not say the subreach expands", w)
+	}
+	w := warning("conveyance ratio A to B")
+	limit := saSig(MaxConveyanceRatio)
+	if !strings.Contains(w, "wanted ≤ "+limit+" (") {
+		t.Fatalf("conveyance ratio: %q does not hold it to %s", w, limit)
+	}
+	_, source, _ := strings.Cut(w, "wanted ≤ "+limit+" (")
+	if !strings.Contains(source, limit) || !strings.Contains(source, "0.7") || !strings.Contains(source, "Dalrymple") {
+		t.Errorf("conveyance ratio: its source %q does not quote the limit %s as 1/0.7 from Dalrymple and Benson", source, limit)
 	}
 }
 
@@ -404,8 +441,8 @@ func TestParseSide(t *testing.T) {
 			t.Errorf("ParseSide(%q) = %v, %v", in, got, err)
 		}
 	}
-	if _, err := ParseSide("middle"); err == nil {
-		t.Error("ParseSide(middle): no error")
+	if _, err := ParseSide("middle"); !errors.Is(err, ErrSide) {
+		t.Errorf("ParseSide(middle): err = %v, want ErrSide", err)
 	}
 }
 
@@ -584,7 +621,7 @@ func TestSlopeAreaEqualSectionsNoRoundOff(t *testing.T) {
 		}
 	}
 	for _, c := range res.Checks {
-		if strings.HasPrefix(c.Name, "velocity-head drop") && (!c.Pass || c.Value != 0) {
+		if strings.HasPrefix(c.Name, "expansion ") && (!c.Pass || c.Value != 0) {
 			t.Errorf("check %s: value %g, pass %v", c.Name, c.Value, c.Pass)
 		}
 	}

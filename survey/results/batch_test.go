@@ -71,9 +71,11 @@ func TestLongRatingWriter(t *testing.T) {
 }
 
 // The batch summary counts rated, failed and skipped sections, lists the
-// failed ones with their errors and the skipped ones with their notes
-// (each at most MaxListed, then how many more), and ends with the caution;
-// the index writes a skipped section's note first among its warnings.
+// failed ones with their errors, the rated ones' warnings and the skipped
+// ones with their notes (each at most MaxListed, then how many more, the
+// warnings pointing at the index that holds them all), and ends with the
+// caution; the index writes a skipped section's note first among its
+// warnings.
 func TestBatchSummaryAndSkipped(t *testing.T) {
 	nan := math.NaN()
 	entry := func(name, err, skipped string) IndexEntry {
@@ -82,18 +84,18 @@ func TestBatchSummaryAndSkipped(t *testing.T) {
 	}
 	entries := []IndexEntry{entry("XS-1", "", ""), entry("XS-2", "", "blank"), entry("XS-3", "bad cell", "")}
 	var b strings.Builder
-	if err := WriteBatchSummary(&b, entries, "out", false); err != nil {
+	if err := WriteBatchSummary(&b, entries, "out", "out/index.csv"); err != nil {
 		t.Fatal(err)
 	}
-	want := "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
+	want := "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nwarning: XS-1: w\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
 	if b.String() != want {
 		t.Errorf("summary\n%s\nwant\n%s", b.String(), want)
 	}
-	// Without an index (one long table) the rated sections' warnings are
-	// listed, one a line; failed and skipped sections' are not.
+	// The rated sections' warnings are listed, one a line, with an index
+	// or without (one long table); failed and skipped sections' are not.
 	b.Reset()
 	entries[0].Warnings = []string{"w1", "w2"}
-	if err := WriteBatchSummary(&b, entries, "out", true); err != nil {
+	if err := WriteBatchSummary(&b, entries, "out", ""); err != nil {
 		t.Fatal(err)
 	}
 	want = "rated 1 of 3 sections into out; 1 skipped\nfailed: XS-3: bad cell\nwarning: XS-1: w1\nwarning: XS-1: w2\nskipped: XS-2: blank\ncaution: " + rating.Caution + "\n"
@@ -106,11 +108,22 @@ func TestBatchSummaryAndSkipped(t *testing.T) {
 	for i := range MaxListed + 3 {
 		many = append(many, entry(fmt.Sprintf("s%d", i), "bad", ""))
 	}
-	if err := WriteBatchSummary(&b, many, "out", false); err != nil {
+	if err := WriteBatchSummary(&b, many, "out", "out/index.csv"); err != nil {
 		t.Fatal(err)
 	}
 	if n := strings.Count(b.String(), "failed: s"); n != MaxListed || !strings.Contains(b.String(), "failed: and 3 more\n") {
 		t.Errorf("%d failed listed:\n%s", n, b.String())
+	}
+	for i := range many {
+		many[i].Err = ""
+	}
+	b.Reset()
+	if err := WriteBatchSummary(&b, many, "out", "out/index.csv"); err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(b.String(), "warning: s"); n != MaxListed ||
+		!strings.Contains(b.String(), "warning: and 3 more, every one in the warnings column of out/index.csv\n") {
+		t.Errorf("%d warnings listed:\n%s", n, b.String())
 	}
 	b.Reset()
 	if err := WriteIndexCSV(&b, entries[1:2]); err != nil {

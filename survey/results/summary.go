@@ -178,10 +178,13 @@ func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) 
 const MaxListed = 20
 
 // WriteBatchSummary says where a batch was written and lists the
-// sections that failed and those skipped (at most MaxListed of each).
-// With warnings (a batch written without an index, such as one long
-// table), the rated sections' warnings are listed too, at most MaxListed.
-func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings bool) error {
+// sections that failed, the rated sections' warnings ("warning: SECTION:
+// WARNING", one a line) and the sections skipped, at most MaxListed of
+// each, then how many more. index is the batch's index file, whose
+// warnings column holds every warning: the line counting the warnings not
+// listed points at it ("" for a batch written without one, such as one
+// long table).
+func WriteBatchSummary(w io.Writer, entries []IndexEntry, where, index string) error {
 	bw := bufio.NewWriter(w)
 	failed, skipped := 0, 0
 	for _, en := range entries {
@@ -197,7 +200,7 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings
 		fmt.Fprintf(bw, "; %d skipped", skipped)
 	}
 	fmt.Fprintln(bw)
-	list := func(word string, entries []IndexEntry, note func(IndexEntry) string) {
+	list := func(word string, entries []IndexEntry, note func(IndexEntry) string, rest string) {
 		shown, more := 0, 0
 		for _, en := range entries {
 			switch n := note(en); {
@@ -210,29 +213,31 @@ func WriteBatchSummary(w io.Writer, entries []IndexEntry, where string, warnings
 			}
 		}
 		if more > 0 {
-			fmt.Fprintf(bw, "%s: and %d more\n", word, more)
+			fmt.Fprintf(bw, "%s: and %d more%s\n", word, more, rest)
 		}
 	}
-	list("failed", entries, func(en IndexEntry) string { return en.Err })
-	if warnings {
-		// One entry a warning, so that each is a line of its own.
-		var ws []IndexEntry
-		for _, en := range entries {
-			if en.Err != "" || en.Skipped != "" {
-				continue
-			}
-			for _, wn := range en.Warnings {
-				ws = append(ws, IndexEntry{Section: en.Section, Warnings: []string{wn}})
-			}
+	list("failed", entries, func(en IndexEntry) string { return en.Err }, "")
+	// One entry a warning, so that each is a line of its own.
+	var ws []IndexEntry
+	for _, en := range entries {
+		if en.Err != "" || en.Skipped != "" {
+			continue
 		}
-		list("warning", ws, func(en IndexEntry) string { return en.Warnings[0] })
+		for _, wn := range en.Warnings {
+			ws = append(ws, IndexEntry{Section: en.Section, Warnings: []string{wn}})
+		}
 	}
+	rest := ""
+	if index != "" {
+		rest = ", every one in the warnings column of " + index
+	}
+	list("warning", ws, func(en IndexEntry) string { return en.Warnings[0] }, rest)
 	list("skipped", entries, func(en IndexEntry) string {
 		if en.Err != "" {
 			return ""
 		}
 		return en.Skipped
-	})
+	}, "")
 	return endSummary(bw, nil)
 }
 

@@ -43,7 +43,7 @@ func TestCountWordsOfOne(t *testing.T) {
 			return err
 		}, []string{"2000000 stages × 1 subsection is 2000000 rows"}},
 		{"batch summary", func(b *bytes.Buffer) error {
-			return results.WriteBatchSummary(b, []results.IndexEntry{{Section: "XS-1", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}}, "out", false)
+			return results.WriteBatchSummary(b, []results.IndexEntry{{Section: "XS-1", StageMin: nan, StageMax: nan, BankfullStage: nan, BankfullDischarge: nan}}, "out", "")
 		}, []string{"rated 1 of 1 section into out"}},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
