@@ -218,15 +218,21 @@ var (
 // (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
 // "right bank" left of the other bank mark). A mark that looks like a
 // bank's but is not one of BankWords (bankfull, LB toe) is warned about
-// at its cell, unless opt.IgnoreBankMarks.
+// at its cell, unless opt.IgnoreBankMarks. A mark or note column holding
+// a bare digit string after a whole elevation or n on most rows is
+// refused (ErrSplitNumber), after a whole station, easting or northing
+// warned of (see Table.splitNumbers).
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
 	if err != nil {
 		return r.sv, err
 	}
-	if err := t.splitNumbers([]int{r.cs, r.cx, r.cy, r.ce, r.cn}, []int{r.cm, r.cnote}, []int{r.cm, r.cnote}); err != nil {
+	split, err := t.splitNumbers(splitColumns{refuse: []int{r.ce, r.cn}, warn: []int{r.cs, r.cx, r.cy},
+		text: []int{r.cm, r.cnote}, running: []int{r.cm, r.cnote}, units: r.sv.Units})
+	if err != nil {
 		return r.sv, err
 	}
+	r.sv.Warnings = append(r.sv.Warnings, split...)
 	for _, rec := range t.Records {
 		r.point(rec)
 	}
