@@ -92,7 +92,7 @@ func TestDecimalCommaSpill(t *testing.T) {
 		{"spreadsheet blank columns", "station,elevation,mark,note,,\n0,731.4,left end,,,\n20,729.7,right end,,,\n", nil, ""},
 		{"rows as wide as the header", "station,elevation,mark,note\n0,731.4,left end,\n20,729.7,right end,\n", nil, ""},
 		{"mark under the header", "station,elevation,mark,note,,\n0,731,4,left end,,\n10,728,2,,,\n20,729,7,right end,,\n", ErrSplitNumber,
-			`s.csv:2:3: mark "4": a number split in two: elevation 731 then 4, as on 3 of 3 rows: an unquoted decimal comma? 731,4 read as two values`},
+			`s.csv:2:3: mark "4": a number split in two: elevation 731 then 4 on 3 of 3 rows: an unquoted decimal comma? 731,4 read as two values`},
 		{"note under the header", "station,elevation,note\n0,731,4\n10,728,2\n20,729,7\n", ErrSplitNumber, "s.csv:2:3: note \"4\""},
 		{"point numbers", "station,elevation,mark\n0,731,1\n10,728,2\n20,729,3\n", nil, ""},
 		{"one row", "station,elevation,mark\n0,731,4\n10,728.5,\n20,729.2,\n", nil, ""},

@@ -59,8 +59,10 @@ func TestElevAlias(t *testing.T) {
 // The mark column is read under the headers crews give a point's code
 // (code, point code, pt code, description, desc), in a survey by station
 // and in a coordinate survey alike; two of them in one header are
-// refused; a column not read that holds bank marks while no bank was
-// found is warned of. The data are invented.
+// refused. Of a code and a description, the one holding bank marks is
+// read (else the one holding end pins, else the code); a column not read
+// that holds bank marks while no bank was found is warned of, with a
+// name it can take. The data are invented.
 func TestMarkColumnNames(t *testing.T) {
 	t.Parallel()
 	stations := "0,731.4,LPIN\n10,728.1,LTOB\n20,725.2,GRD\n30,728.3,RTOB\n40,731.0,RPIN\n"
@@ -86,22 +88,70 @@ func TestMarkColumnNames(t *testing.T) {
 	if _, err := ParseSection(strings.NewReader("station,elevation,mark,code\n0,1,bank,x\n1,0,,\n2,1,bank,\n"), "s.csv", SectionOptions{}); !errors.Is(err, ErrAliasColumns) {
 		t.Errorf("mark and code: %v, want ErrAliasColumns", err)
 	}
-	// A data collector's export: a point code beside a description. The
-	// code marks the banks; the description is not read.
-	cd := "station,elevation,code,description\n0,12,GND,left end\n2,11,LB,left bank top\n6,9,GND,thalweg\n10,11.1,RB,right bank top\n12,12.1,GND,\n"
-	if sv, err := ParseSection(strings.NewReader(cd), "s.csv", SectionOptions{}); err != nil || !sv.Section.HasBanks || sv.Section.LeftBank != 2 || sv.Section.RightBank != 10 {
-		t.Errorf("code and description: %v, banks %v %v %v: want the code's banks at 2 and 10", err, sv.Section.HasBanks, sv.Section.LeftBank, sv.Section.RightBank)
-	}
 	// Two bank marks on one side, in a coordinate survey whose mark column
 	// is a code: the error names that column and cell.
 	two := "easting,northing,elevation,code\n100,200,10,\n101,200,9,LB\n102,200,8,\n104,200,9.1,LTOB\n105,200,10.1,\n"
 	if _, err := ParseSection(strings.NewReader(two), "c.csv", SectionOptions{}); err == nil || !strings.Contains(err.Error(), `c.csv:5:4: code "LTOB"`) {
 		t.Errorf("two left banks under code: %v, want the error at c.csv:5:4 code \"LTOB\"", err)
 	}
-	sv, err := ParseSection(strings.NewReader("station,elevation,pt\n"+stations), "s.csv", SectionOptions{})
+	// A code column and a description column: the one holding the bank
+	// marks is read, whichever it is, and the other is not warned of.
+	// The layouts are those of a data collector's export (common
+	// practice); the stations and elevations are invented, the second
+	// layout that of a trial user's survey whose banks were lost.
+	for _, tc := range []struct {
+		name, csv   string
+		left, right float64
+	}{
+		{"code with banks, description free text",
+			"station,elevation,code,description\n0,12,GND,left end\n2,11,LB,left bank top\n6,9,GND,thalweg\n10,11.1,RB,right bank top\n12,12.1,GND,\n", 2, 10},
+		{"numeric code, description with banks",
+			"station,elevation,n,code,description\n0,104.0,0.05,10,left pin\n5,103.1,,20,LTOB\n9,101.2,0.035,30,toe\n14,100.4,,31,thalweg\n19,100.6,,30,toe\n24,101.5,,30,\n28,103.0,0.05,21,RTOB\n34,103.9,,11,right pin\n", 5, 28},
+		{"description before a numeric code",
+			"station,elevation,desc,pt code\n0,12,left end,1\n2,11,LTOB,2\n6,9,thalweg,3\n10,11.1,RTOB,4\n12,12.1,right end,5\n", 2, 10},
+	} {
+		sv, err := ParseSection(strings.NewReader(tc.csv), "s.csv", SectionOptions{})
+		switch {
+		case err != nil:
+			t.Errorf("%s: %v", tc.name, err)
+		case !sv.Section.HasBanks || sv.Section.LeftBank != tc.left || sv.Section.RightBank != tc.right:
+			t.Errorf("%s: banks %v %v %v, want %v and %v", tc.name, sv.Section.HasBanks, sv.Section.LeftBank, sv.Section.RightBank, tc.left, tc.right)
+		case len(notRead(sv.Warnings)) > 0:
+			t.Errorf("%s: warnings %q, want no column unread", tc.name, sv.Warnings)
+		}
+	}
+	// Neither holds bank marks: a description holding the end pins of a
+	// coordinate survey is read for them; else the code is read, and
+	// another column holding bank marks is warned of with a name it can
+	// take beside the code.
+	sv, err := ParseSection(strings.NewReader("x,y,z,code,description\n5000,2000,731.4,1,left pin\n5007,2007,728.1,2,\n5014,2014,725.2,3,GRD\n5028,2028,731.0,4,right pin\n"), "c.csv", SectionOptions{IgnoreBankMarks: true})
+	if err != nil || sv.Projection.Line != LineFromPins {
+		t.Errorf("numeric code, pins in the description: %v, line %q, want the pins' line", err, sv.Projection.Line)
+	}
+	sv, err = ParseSection(strings.NewReader("station,elevation,code,remarks\n0,12,10,\n2,11,20,LTOB\n6,9,30,\n10,11.1,21,RTOB\n12,12.1,10,\n"), "s.csv", SectionOptions{})
+	if w := notRead(sv.Warnings); err != nil || sv.Section.HasBanks || len(w) != 1 ||
+		!strings.Contains(w[0], `s.csv:3:4: remarks "LTOB": this column is not read, yet holds 2 bank marks (LTOB, RTOB), and no bank was found: name it description (or desc) if it marks the points`) {
+		t.Errorf("code and remarks: %v, %q", err, sv.Warnings)
+	}
+	sv, err = ParseSection(strings.NewReader("station,elevation,code,desc,remarks\n0,12,10,a,\n2,11,20,b,LTOB\n6,9,30,c,\n10,11.1,21,d,RTOB\n12,12.1,10,e,\n"), "s.csv", SectionOptions{})
+	if w := notRead(sv.Warnings); err != nil || len(w) != 1 || !strings.Contains(w[0], `no bank was found: write its bank marks in code if it marks the points`) {
+		t.Errorf("code, desc and remarks: %v, %q", err, sv.Warnings)
+	}
+	sv, err = ParseSection(strings.NewReader("station,elevation,pt\n"+stations), "s.csv", SectionOptions{})
 	if err != nil || sv.Section.HasBanks || len(sv.Warnings) != 1 || !strings.Contains(sv.Warnings[0], `s.csv:3:3: pt "LTOB": this column is not read, yet holds 2 bank marks (LTOB, RTOB), and no bank was found`) {
 		t.Errorf("unread column: %v, %q", err, sv.Warnings)
 	}
+}
+
+// notRead returns the warnings of a column not read.
+func notRead(warnings []string) []string {
+	var out []string
+	for _, w := range warnings {
+		if strings.Contains(w, "this column is not read") {
+			out = append(out, w)
+		}
+	}
+	return out
 }
 
 // TestMissingColumnSuggests: a missing column's error names its aliases,

@@ -26,7 +26,10 @@ type csvStream struct {
 	line   int      // lines read so far
 	long   []byte   // a line longer than the reader's buffer
 	fields [][]byte // the current record's fields
-	queue  []queued // records of a quoted chunk not yet returned
+	// quoted says which of the current record's fields were quoted (nil
+	// when none was).
+	quotedFields []bool
+	queue        []queued // records of a quoted chunk not yet returned
 	// meta holds the "# key: value" lines (see MetaKeys) above the first
 	// record; started is set once a record has been returned.
 	meta    map[string]string
@@ -42,6 +45,7 @@ type csvStream struct {
 type queued struct {
 	line   int
 	fields [][]byte
+	quoted []bool
 }
 
 // csvBufferSize is the read buffer of a streamed CSV file.
@@ -111,6 +115,7 @@ func (c *csvStream) next() ([][]byte, int, error) {
 			q := c.queue[0]
 			c.queue = c.queue[1:]
 			c.started = true
+			c.quotedFields = q.quoted
 			return q.fields, q.line, nil
 		}
 		line, err := c.readLine()
@@ -167,9 +172,16 @@ func (c *csvStream) next() ([][]byte, int, error) {
 		}
 		if !blankRec {
 			c.started = true
+			c.quotedFields = nil
 			return c.fields, c.line, nil
 		}
 	}
+}
+
+// fieldQuoted reports that field i of the record next returned last was
+// quoted.
+func (c *csvStream) fieldQuoted(i int) bool {
+	return i >= 0 && i < len(c.quotedFields) && c.quotedFields[i]
 }
 
 // quoted gathers the lines of a record holding quotes (a quoted field may
@@ -197,6 +209,7 @@ func (c *csvStream) quoted(first []byte) error {
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
+	finder := quoteFinder{data: chunk, line: 1}
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
@@ -210,7 +223,7 @@ func (c *csvStream) quoted(first []byte) error {
 			return &ParseError{File: c.name, Row: start, Err: err}
 		}
 		line, _ := cr.FieldPos(0)
-		q := queued{line: start + line - 1}
+		q := queued{line: start + line - 1, quoted: finder.fields(cr, len(rec))}
 		blankRec := true
 		for _, f := range rec {
 			b := bytes.TrimSpace([]byte(f))

@@ -106,9 +106,10 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // (ErrMixedOffsets). A time-zone column (TimeZoneColumns) gives each
 // row's time its offset (see zonedTime: ErrZone, ErrZoneBlank,
 // ErrZoneDisagrees at the zone cell). A missing column is the error of
-// Table.Require, a table without rows ErrEmpty. A text column after a
-// number column holding a bare digit string after a whole number on most
-// rows is refused (ErrSplitNumber; see gaugingCols.splitNumbers). Gauge
+// Table.Require, a table without rows ErrEmpty. A quality, note or
+// exclude column holding a bare digit string after a whole gauge height
+// on most rows is refused (ErrSplitNumber), after a whole discharge or
+// uncertainty warned of (see gaugingCols.splitNumbers). Gauge
 // heights spanning more than a river rises are warned of by
 // Gaugings.SpanWarnings once the unit system is known.
 func GaugingsFromTable(t *Table) (Gaugings, error) {
@@ -123,12 +124,14 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	if err != nil {
 		return gs, err
 	}
-	if err := cols.splitNumbers(t); err != nil {
-		return gs, err
-	}
 	if gs.Units, err = t.HeaderUnits(cols.stage, cols.discharge); err != nil {
 		return gs, err
 	}
+	split, err := cols.splitNumbers(t, gs.Units)
+	if err != nil {
+		return gs, err
+	}
+	gs.Warnings = append(gs.Warnings, split...)
 	gs.Site = t.Site()
 	rd := &gaugingReader{t: t, cols: cols, off: off, seen: map[int64]int{}}
 	for _, rec := range t.Records {
@@ -254,14 +257,18 @@ func gaugingColsOf(t *Table) (gaugingCols, error) {
 	return c, t.unsavedIn(c.time, c.stage, c.discharge, c.quality, c.note, c.uncertainty, c.exclude, c.zone)
 }
 
-// splitNumbers returns the error (ErrSplitNumber) of a quality, note or
-// exclude column holding on most rows a bare digit string after a whole
-// number in the stage, discharge or uncertainty column before it: an
-// unquoted decimal comma (4,10) split the number and shifted the row
-// without adding a field (see Table.splitNumbers). A note may hold
-// measurement numbers, which pass when they increase down the rows.
-func (c gaugingCols) splitNumbers(t *Table) error {
-	return t.splitNumbers([]int{c.stage, c.discharge, c.uncertainty}, []int{c.quality, c.note, c.exclude}, []int{c.note})
+// splitNumbers checks a quality, note or exclude column holding on most
+// rows a bare digit string after a whole number in the stage, discharge
+// or uncertainty column before it: an unquoted decimal comma (0,84 or
+// 4,10) that split the number and shifted the row without adding a field
+// (see Table.splitNumbers). After the gauge height, read to the
+// millimetre, it is an error (ErrSplitNumber); after a discharge or an
+// uncertainty, often whole, a warning. A note may hold measurement
+// numbers, which pass when they increase down the rows; headers naming
+// US units (units) and quoted cells pass.
+func (c gaugingCols) splitNumbers(t *Table, units UnitNote) ([]string, error) {
+	return t.splitNumbers(splitColumns{refuse: []int{c.stage}, warn: []int{c.discharge, c.uncertainty},
+		text: []int{c.quality, c.note, c.exclude}, running: []int{c.note}, units: units})
 }
 
 // gaugingReader reads the rows of a gaugings table, gathering the errors

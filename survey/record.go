@@ -131,9 +131,10 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before), a value after the header's last named column
 // (ErrBeyondHeader), a CSV row with more fields than a header line ending
-// in a named column (ErrSpilledRow), a column after the stage holding a
-// bare digit string after a whole stage on most rows (ErrSplitNumber: 1,05
-// split by an unquoted decimal comma). A header naming a column twice is refused
+// in a named column (ErrSpilledRow). A quality column right after the
+// stage holding a bare digit string after a whole stage on most rows (1,05
+// split by an unquoted decimal comma?) is warned of (see
+// stageBuilder.splitWarning). A header naming a column twice is refused
 // (ErrDuplicateColumn), and so is one with both stage and gauge_height
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
@@ -152,6 +153,7 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 		return nil, err
 	}
 	cs := newCSVStream(r, name)
+	b.quoted = cs.fieldQuoted
 	for {
 		fields, line, err := cs.next()
 		if err == io.EOF {
@@ -272,6 +274,9 @@ type stageBuilder struct {
 	errs                 cappedErrors
 	rows, maxRows        int // data rows read; the limit (Limits.Readings)
 	split                splitRun
+	// quoted reports that a field of the row being read was quoted in
+	// CSV (nil in a sheet).
+	quoted func(int) bool
 }
 
 func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
@@ -342,11 +347,12 @@ func (b *stageBuilder) headerFields() int {
 	return b.width
 }
 
-// takeSplit counts the cells of the stage and the column after it, when
-// that is a named column other than the time, for splitError.
+// takeSplit counts the cells of the stage and the quality column, when
+// it comes right after the stage, for splitWarning; a column the record
+// does not read (a logger's temperature) is not counted.
 func (b *stageBuilder) takeSplit(fields [][]byte, row int) {
 	c := b.cs + 1
-	if c >= b.width || c == b.ct {
+	if c != b.cq {
 		return
 	}
 	var whole, digits []byte
@@ -356,21 +362,24 @@ func (b *stageBuilder) takeSplit(fields [][]byte, row int) {
 	if c < len(fields) {
 		digits = fields[c]
 	}
-	takeSplit(&b.split, row, whole, digits)
+	takeSplit(&b.split, row, whole, digits, b.quoted != nil && b.quoted(c))
 }
 
-// splitError is the error (ErrSplitNumber) of a column after the stage
-// holding a bare digit string after a whole stage on most rows, as
-// Table.splitNumbers finds it in a survey: an unquoted decimal comma
-// (1,05) that split the stage without adding a field. A record holds no
-// running numbers, so increasing digit strings are refused too.
-func (b *stageBuilder) splitError() error {
-	if !b.split.split(false) {
-		return nil
+// splitWarning is the warning, "" for none, of a quality column right
+// after the stage holding a bare digit string after a whole stage on most
+// rows, as Table.splitNumbers finds it in a survey: an unquoted decimal
+// comma (1,05) that split the stage without adding a field? A logger in
+// centimetres records whole stages, and a quality code may be a digit,
+// so it is no error (see the policy in splitnumbers.go); a stage header
+// naming US units, and quoted quality cells, pass. A record holds no
+// running numbers, so increasing digit strings are warned of too.
+func (b *stageBuilder) splitWarning() string {
+	if !b.split.split(false) || b.out.Units.Found && b.out.Units.Units == rating.US {
+		return ""
 	}
 	c := b.cs + 1
-	return &ParseError{File: b.file, Sheet: b.sheet, Row: b.split.row, Column: c + 1, Name: b.header[c], Text: b.split.digits,
-		Err: b.split.cause(b.header[b.cs])}
+	return (&ParseError{File: b.file, Sheet: b.sheet, Row: b.split.row, Column: c + 1, Name: b.header[c], Text: b.split.digits,
+		Err: errors.New(b.split.evidence(b.header[b.cs], b.header[c], b.sheet == ""))}).Error()
 }
 
 // row reads one data row; a value after the header's last named column
@@ -485,9 +494,6 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 	if b.header == nil {
 		return nil, &ParseError{File: b.file, Sheet: b.sheet, Err: errors.New("empty file: no header row")}
 	}
-	if err := b.splitError(); err != nil {
-		return nil, err
-	}
 	if err := b.errs.err(b.file); err != nil {
 		return nil, err
 	}
@@ -502,6 +508,9 @@ func (b *stageBuilder) finish() (*StageRecord, error) {
 		b.out.Warnings = append(b.out.Warnings, fmt.Sprintf("%s: %s with a time but no stage, read as missing readings (flagged missing in the unit values)", b.file, rating.Counted(n, "row", "rows")))
 	}
 	if w := b.ahead.warning(b.file, b.off); w != "" {
+		b.out.Warnings = append(b.out.Warnings, w)
+	}
+	if w := b.splitWarning(); w != "" {
 		b.out.Warnings = append(b.out.Warnings, w)
 	}
 	return b.out, nil

@@ -116,35 +116,69 @@ func ParseSection(r io.Reader, name string, opt SectionOptions) (Survey, error) 
 // name and its aliases (z, and elev or elev. as crews abbreviate it).
 func elevationNames() []string { return []string{ColElevation, "z", "elev", "elev."} }
 
-// markNames are the names of the mark column of a survey: its name and
-// the headers field crews give a point's code (code, point code, pt code,
-// description, desc; common practice of data collectors). None is a name
-// of another column of a survey.
-func markNames() []string {
-	return []string{ColMark, "code", "point code", "pt code", "description", "desc"}
-}
-
-// markTiers are markNames in the order a mark column is chosen when a
-// survey has several: mark or a code, then a description. A data
-// collector's export often carries a point code and a description side by
-// side (common practice); the code holds the crew's bank codes, and the
-// description is then left unread (warned of if it holds bank words and
-// no bank is found).
+// markTiers are the names of the mark column of a survey, in tiers: its
+// name or the headers field crews give a point's code (code, point code,
+// pt code), then a description (description, desc; common practice of
+// data collectors). None is a name of another column of a survey. An
+// export often carries a point code and a description side by side;
+// either may hold the crew's bank codes, and markColumn reads the one
+// that does.
 func markTiers() [][]string {
 	return [][]string{{ColMark, "code", "point code", "pt code"}, {"description", "desc"}}
 }
 
 // markColumn returns the index of t's mark column (-1 when it has none):
-// a name of the first of markTiers present. Two names of one tier (mark
-// and code) are refused as one column under two names (ErrAliasColumns).
+// of the columns of markTiers present (at most one a tier), the first holding a
+// bank mark (one of BankWords), else the first holding an end pin's mark
+// (one of PinWords), else the first. A numeric feature code (10, 20, 30)
+// beside a description holding LTOB and RTOB thus leaves the banks in
+// the description read, and a code holding them is read before a
+// description of free text. Two names of one tier (mark and code) are
+// refused as one column under two names (ErrAliasColumns).
 func markColumn(t *Table) (int, error) {
+	var present []int
 	for _, tier := range markTiers() {
 		c, err := t.Optional(tier...)
-		if err != nil || c >= 0 {
+		if err != nil {
 			return c, err
 		}
+		if c >= 0 {
+			present = append(present, c)
+		}
 	}
-	return -1, nil
+	for _, holds := range []func(string) bool{isBankMark, isPinMark} {
+		for _, c := range present {
+			for _, rec := range t.Records {
+				if holds(t.Cell(rec, c)) {
+					return c, nil
+				}
+			}
+		}
+	}
+	if len(present) == 0 {
+		return -1, nil
+	}
+	return present[0], nil
+}
+
+// isBankMark reports a mark read as a bank's (one of BankWords).
+func isBankMark(mark string) bool { _, ok := readBankMark(mark); return ok }
+
+// isPinMark reports a mark read as an end pin's (one of PinWords).
+func isPinMark(mark string) bool { _, ok := readPinMark(mark); return ok }
+
+// freeMarkNames returns the names of markTiers whose tier has no column
+// in t: a column renamed to one of them is read as the mark column when
+// it holds the bank marks (see markColumn), where a name of a tier
+// present would be refused as that column's alias.
+func freeMarkNames(t *Table) []string {
+	var out []string
+	for _, tier := range markTiers() {
+		if t.Column(tier...) < 0 {
+			out = append(out, tier...)
+		}
+	}
+	return out
 }
 
 // markColumnOr is markColumn for positioning an error in a table already
@@ -218,15 +252,21 @@ var (
 // (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
 // "right bank" left of the other bank mark). A mark that looks like a
 // bank's but is not one of BankWords (bankfull, LB toe) is warned about
-// at its cell, unless opt.IgnoreBankMarks.
+// at its cell, unless opt.IgnoreBankMarks. A mark or note column holding
+// a bare digit string after a whole elevation or n on most rows is
+// refused (ErrSplitNumber), after a whole station, easting or northing
+// warned of (see Table.splitNumbers).
 func SectionFromTable(t *Table, opt SectionOptions) (Survey, error) {
 	r, err := newSectionReader(t)
 	if err != nil {
 		return r.sv, err
 	}
-	if err := t.splitNumbers([]int{r.cs, r.cx, r.cy, r.ce, r.cn}, []int{r.cm, r.cnote}, []int{r.cm, r.cnote}); err != nil {
+	split, err := t.splitNumbers(splitColumns{refuse: []int{r.ce, r.cn}, warn: []int{r.cs, r.cx, r.cy},
+		text: []int{r.cm, r.cnote}, running: []int{r.cm, r.cnote}, units: r.sv.Units})
+	if err != nil {
 		return r.sv, err
 	}
+	r.sv.Warnings = append(r.sv.Warnings, split...)
 	for _, rec := range t.Records {
 		r.point(rec)
 	}
@@ -543,9 +583,18 @@ func (r *sectionReader) unreadBankWarnings() {
 		if len(words) == 0 {
 			continue
 		}
+		var advice string
+		switch names := freeMarkNames(t); {
+		case len(names) == 0:
+			advice = fmt.Sprintf("write its bank marks in %s if it marks the points", echo(t.Header[r.cm]))
+		case len(names) == 1:
+			advice = fmt.Sprintf("name it %s if it marks the points", names[0])
+		default:
+			advice = fmt.Sprintf("name it %s (or %s) if it marks the points", names[0], strings.Join(names[1:], ", "))
+		}
 		r.sv.Warnings = append(r.sv.Warnings, t.unreadWarning(first, c, fmt.Sprintf(
-			"yet holds %s (%s), and no bank was found: name it %s (or %s) if it marks the points",
-			rating.Counted(len(words), "bank mark", "bank marks"), strings.Join(words, ", "), ColMark, strings.Join(markNames()[1:], ", "))))
+			"yet holds %s (%s), and no bank was found: %s",
+			rating.Counted(len(words), "bank mark", "bank marks"), strings.Join(words, ", "), advice)))
 	}
 }
 

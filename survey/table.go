@@ -55,6 +55,14 @@ type Table struct {
 type Record struct {
 	Row   int
 	Cells []string
+	// quoted says which cells of a CSV row were quoted (nil when none
+	// was, and in a sheet), for the check of split numbers.
+	quoted []bool
+}
+
+// quotedCell reports that cell col of a CSV row was written in quotes.
+func (r Record) quotedCell(col int) bool {
+	return col >= 0 && col < len(r.quoted) && r.quoted[col]
 }
 
 // IsWorkbook reports whether a path names a spreadsheet workbook.
@@ -532,6 +540,38 @@ func csvFieldAt(data []byte, start, line, col int) (fieldLine, field int, ok boo
 	return 0, 0, false
 }
 
+// quoteFinder tells which fields of the records encoding/csv reads from
+// data were quoted, the records read in order: it keeps the line it has
+// reached and the offset of its start, so the text is walked once.
+type quoteFinder struct {
+	data       []byte
+	line, from int // a 1-based line and the offset in data where it starts
+}
+
+// fields returns which of the n fields of the record cr last read were
+// quoted, nil when none was. encoding/csv gives a quoted field's position
+// as that of its opening quote.
+func (q *quoteFinder) fields(cr *csv.Reader, n int) []bool {
+	var out []bool
+	for i := 0; i < n; i++ {
+		line, col := cr.FieldPos(i)
+		for q.line < line {
+			j := bytes.IndexByte(q.data[q.from:], '\n')
+			if j < 0 {
+				return out
+			}
+			q.line, q.from = q.line+1, q.from+j+1
+		}
+		if at := q.from + col - 1; q.line == line && at >= 0 && at < len(q.data) && q.data[at] == '"' {
+			if out == nil {
+				out = make([]bool, n)
+			}
+			out[i] = true
+		}
+	}
+	return out
+}
+
 // extraFieldsError is the error of a row rec (at row of file and sheet)
 // with cells beyond the width columns its header names: a value there
 // (ErrBeyondHeader at its cell; in CSV, naming the split number before it
@@ -618,6 +658,7 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
+	hasQuotes, quotes := bytes.IndexByte(data, '"') >= 0, quoteFinder{data: data, line: 1}
 	for {
 		rec, err := cr.Read()
 		if err == io.EOF {
@@ -649,6 +690,9 @@ func ParseCSV(r io.Reader, name string) (*Table, error) {
 		}
 		if err := b.row(rec, line); err != nil {
 			return nil, err
+		}
+		if hasQuotes {
+			b.t.Records[len(b.t.Records)-1].quoted = quotes.fields(cr, len(rec))
 		}
 	}
 	if b.t.Header == nil {
