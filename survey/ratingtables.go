@@ -372,20 +372,22 @@ func KindOf(t *Table) TableKind {
 	return KindUnknown
 }
 
-// zeroFlowNames are the names (as normName writes them) of a column that
-// gives a rating's gauge height of zero flow, its offset, row by row: a
-// rating written as descriptor rows with an offset column. wetline reads
-// no such column (see zeroFlowWarning); "offset" followed by a number
-// (offset1, offset_2) is one too.
-var zeroFlowNames = []string{"offset", "e", "gzf", "pzf", "ctf", "zero_flow", "zero_flow_stage",
-	"gauge_height_of_zero_flow", "gage_height_of_zero_flow", "gh_of_zero_flow", "stage_of_zero_flow",
-	"point_of_zero_flow", "cease_to_flow"}
+// zeroFlowNames returns the names (as normName writes them) of a column
+// that gives a rating's gauge height of zero flow, its offset, row by row:
+// a rating written as descriptor rows with an offset column. wetline reads
+// no such column (see zeroFlowWarnings); "offset" followed by a number
+// (offset1, offset_2) is one too. The slice is new on every call.
+func zeroFlowNames() []string {
+	return []string{"offset", "e", "gzf", "pzf", "ctf", "zero_flow", "zero_flow_stage",
+		"gauge_height_of_zero_flow", "gage_height_of_zero_flow", "gh_of_zero_flow", "stage_of_zero_flow",
+		"point_of_zero_flow", "cease_to_flow"}
+}
 
 // isZeroFlowName reports a header naming a gauge height of zero flow (see
 // zeroFlowNames).
 func isZeroFlowName(h string) bool {
 	n := normName(h)
-	if slices.Contains(zeroFlowNames, n) {
+	if slices.Contains(zeroFlowNames(), n) {
 		return true
 	}
 	rest, ok := strings.CutPrefix(n, "offset")

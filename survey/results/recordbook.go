@@ -303,17 +303,14 @@ func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u ra
 }
 
 // zoneCell is the time-zone cell of times written at the wall clock of
-// zone z: its offset as survey.ParseZone reads it ("UTC", "+10:00").
+// zone z: "UTC" for no offset, else its offset as record.FormatOffset
+// writes it ("+10:00"), both as survey.ParseZone reads them.
 func zoneCell(z *time.Location) string {
 	_, off := time.Unix(0, 0).In(z).Zone()
 	if off == 0 {
 		return "UTC"
 	}
-	sign := "+"
-	if off < 0 {
-		sign, off = "-", -off
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
+	return record.FormatOffset(time.Duration(off) * time.Second)
 }
 
 // writeShiftsSheet writes diagrams in the columns of a shift table, times
