@@ -95,6 +95,14 @@ const (
 // a step-backwater run's, else "". Every bad cell is reported, each
 // naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
+	return RatingFromTableGiven(t, choice, ZeroFlowGiven{})
+}
+
+// RatingFromTableGiven is RatingFromTable of a table read with a gauge
+// height of zero flow given (zero), as plot's --zero-flow gives one: a
+// column of the table naming a zero flow is warned of as
+// RatingTablesFromTable warns of it, not when it holds the value given.
+func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
 	if err != nil {
@@ -110,7 +118,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if err := t.unsavedIn(read...); err != nil {
 		return out, err
 	}
-	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, false, 0)...)
+	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, zero)...)
 	vf, err := newValidFromReader(t, cv, 0)
 	if err != nil {
 		return out, err

@@ -99,7 +99,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	t, err := survey.RatingFromTable(src.Table, u)
+	t, err := survey.RatingFromTableGiven(src.Table, u, survey.ZeroFlowGiven{Given: fs.Changed("zero-flow"), Value: f.zeroFlow})
 	if errors.Is(err, survey.ErrUnitsDisagree) {
 		return fmt.Errorf("%w (%s units set by %s)", err, u.Units, by)
 	}
