@@ -56,8 +56,8 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 // WriteRecordWorkbook writes the results workbook of a record to w.
 // Sheets:
 //
-//   - summary: the stage record, the files read, program, units, the zone
-//     of the days, the maximum gap, every rating period and shift diagram
+//   - summary: the stage record, the files read, program, site, the input
+//     notes (a rating table naming no unit), units, the zone of the days, the maximum gap, every rating period and shift diagram
 //     used, the flag counts, the provisional note, the warnings and the
 //     caution;
 //   - daily values: RecordDailyColumns(), dates and times in the record's
@@ -148,6 +148,9 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"read from", joinInputs(res.Provenance.Inputs), ""},
 		{"program", programName(res.Provenance), ""},
 		{"site", res.Provenance.Site.String(), ""},
+	}
+	items = append(items, inputNoteItems(res.Provenance)...)
+	items = append(items, []SummaryItem{
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"readings", len(res.Units), ""},
 		{"missing readings (flagged missing in the unit values)", len(res.Missing), ""},
@@ -155,7 +158,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"days taken in", zoneName(res.Zone), ""},
 		{"longest gap bridged", record.FormatDuration(res.MaxGap), ""},
 		{"method", "effective gauge height h + s(t, h), discharge from the rating in force; daily mean time-weighted by the trapezoidal rule over the covered part of the day (Kennedy, 1983, USGS TWRI 3-A13)", ""},
-	}
+	}...)
 	if n := len(res.Units); n > 0 {
 		items = append(items,
 			SummaryItem{"first reading", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout), ""},
