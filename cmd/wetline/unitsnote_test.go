@@ -151,4 +151,3 @@ func TestUnitsAssumedNoteInReports(t *testing.T) {
 		})
 	}
 }
-
