@@ -105,7 +105,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	if errors.Is(err, survey.ErrMissingColumn) && tableSheet == "" {
 		if other := survey.OtherRatingSheet(src.Table); other != "" {
-			return fmt.Errorf("%w; sheet %s holds a rating table: give --table-sheet %s", err, other, survey.SheetArg(other))
+			return fmt.Errorf("%w; sheet %s holds a rating table: give --table-sheet %s", err, survey.SheetArg(other), survey.SheetArg(other))
 		}
 	}
 	if err != nil {

@@ -18,7 +18,7 @@ import (
 const (
 	SheetDaily     = "daily values"
 	SheetUnit      = "unit values"
-	SheetRatings   = "ratings"
+	SheetRatings   = survey.SheetResultsRatings
 	SheetShifts    = "shifts"
 	SheetProposals = "proposed shifts"
 )
