@@ -57,14 +57,16 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 // Sheets:
 //
 //   - summary: the stage record, the files read, program, site, the input
-//     notes (a rating table naming no unit), units, the zone of the days, the maximum gap, every rating period and shift diagram
-//     used, the flag counts, the provisional note, the warnings and the
-//     caution;
+//     notes (a rating table naming no unit), units, the zone of the days,
+//     the maximum gap, every rating period and shift diagram used, the
+//     flag counts, the provisional note, the warnings and the caution;
 //   - daily values: RecordDailyColumns(), dates and times in the record's
 //     zone;
 //   - unit values: RecordUnitColumns(), when asked for;
 //   - ratings: every period's table (period, valid_from, rating, stage,
-//     discharge, tz), the period's start a date cell with its zone;
+//     discharge, tz), the period's start a date cell with its zone, for
+//     reading: it does not read back as a rating file (see
+//     writeRatingsSheet);
 //   - shifts: the diagrams used in the columns of a shift table
 //     (survey.ShiftColumns(), times as date cells), the rating period,
 //     the source and the times' zone (tz), so the sheet reads back as
@@ -266,9 +268,14 @@ func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 // its first row.
 //
 // A period's start is a date cell at the wall clock of zone z, its zone in
-// the tz column after the others (see zoneCell), so that the sheet reads
-// back at the same instants whatever offset the reader is given; the
-// first period's open start is the text "the beginning".
+// the tz column after the others (see zoneCell), so that the instant is
+// plain whatever zone the reader works in; the first period's open start
+// is the text "the beginning", and a period without a rating one row
+// without stage or discharge. The sheet states the periods used; it does
+// not read back as a rating file (a rating reader wants a time on a
+// valid_from column's first row, and a period's zero flow, highest
+// gauging and extrapolation are in the summary only): the rating files
+// the record read are its ratings.
 func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u rating.Units) error {
 	s, err := reportTable(b, SheetRatings, []workbook.Column{
 		{Name: "period", Format: "0"},
