@@ -95,6 +95,14 @@ const (
 // a step-backwater run's, else "". Every bad cell is reported, each
 // naming its row and column.
 func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
+	return RatingFromTableGiven(t, choice, ZeroFlowGiven{})
+}
+
+// RatingFromTableGiven is RatingFromTable of a table read with a gauge
+// height of zero flow given (zero), as plot's --zero-flow gives one: a
+// column of the table naming a zero flow is warned of as
+// RatingTablesFromTable warns of it, not when it holds the value given.
+func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
 	if err != nil {
@@ -110,7 +118,7 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 	if err := t.unsavedIn(read...); err != nil {
 		return out, err
 	}
-	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, false, 0)...)
+	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, zero)...)
 	vf, err := newValidFromReader(t, cv, 0)
 	if err != nil {
 		return out, err
@@ -197,11 +205,27 @@ func RatingUnits(t *Table) (UnitNote, error) {
 }
 
 // Sheets of a results workbook that wetline writes (survey/results): the
-// summary first, as items with their values and units, and the rating.
+// summary first, as items with their values and units; the rating of rate
+// and backwater, fit's fitted rating, and the rating periods a record or
+// a shift check used (every period's table in one sheet, not one rating).
 const (
 	SheetResultsSummary = "summary"
 	SheetResultsRating  = "rating"
+	SheetResultsFitted  = "fitted rating"
+	SheetResultsRatings = "ratings"
 )
+
+// resultsRatingSheets are the sheets of a results workbook that hold a
+// rating table to redraw, in the order they are looked for: rate's and
+// backwater's rating, fit's fitted rating.
+func resultsRatingSheets() []string {
+	return []string{SheetResultsRating, SheetResultsFitted}
+}
+
+// ErrNoRatingSheet is the cause of a results workbook, read for its rating
+// table, that has none (a record's, a shift check's, a slope-area
+// computation's, a fit's without a fitted table).
+var ErrNoRatingSheet = errors.New("a results workbook with no rating table to redraw")
 
 // RatingSource is a rating table read back for redrawing, with what the
 // summary sheet of a results workbook says of it.
@@ -216,9 +240,10 @@ type RatingSource struct {
 }
 
 // OtherRatingSheet names the first sheet of the workbook t was read from,
-// other than t's own, whose header has a rating table's stage (or
-// gauge_height) and discharge columns; "" when none has, or t is no
-// workbook sheet.
+// other than t's own, that reads as a rating table (RatingFromTable
+// without error, its headers deciding the units: stage and discharge
+// columns, stages increasing), so that following the name reads it; ""
+// when none does, or t is no workbook sheet.
 func OtherRatingSheet(t *Table) string {
 	if t.Sheet == "" {
 		return ""
@@ -228,7 +253,10 @@ func OtherRatingSheet(t *Table) string {
 			continue
 		}
 		o, err := ReadTable(t.File, name)
-		if err == nil && (o.Column(ColRatingStage) >= 0 || o.Column(ColGaugeHeight) >= 0) && o.Column(ColRatingDischarge) >= 0 {
+		if err != nil || o.Column(ColRatingStage, ColGaugeHeight) < 0 || o.Column(ColRatingDischarge) < 0 {
+			continue
+		}
+		if _, err := RatingFromTable(o, UnitChoice{}); err == nil {
 			return name
 		}
 	}
@@ -237,26 +265,51 @@ func OtherRatingSheet(t *Table) string {
 
 // ReadRatingSource reads a rating table as ReadTable does, but from a
 // workbook with no sheet named whose first sheet is the summary of a
-// results workbook (named summary, with item and value columns) and which
-// has a rating sheet, it reads that sheet, with the site the summary's
-// site item gives (the rating sheet's headers name its units).
+// results workbook (named summary, with item and value columns) it reads
+// the sheet wetline writes its rating to (rate's and backwater's rating,
+// else fit's fitted rating), with the site the summary's site item gives
+// (the rating sheet's headers name its units). A results workbook with
+// neither is ErrNoRatingSheet (a *ParseError at the workbook), saying
+// which sheets hold one and, for a record's or a shift check's workbook,
+// that its ratings sheet holds every rating period together.
 func ReadRatingSource(path, sheet string) (RatingSource, error) {
 	t, err := ReadTable(path, sheet)
 	if err != nil || sheet != "" || !strings.EqualFold(t.Sheet, SheetResultsSummary) {
 		return RatingSource{Table: t}, err
 	}
-	ci, cv := t.Column("item"), t.Column("value")
-	if ci < 0 || cv < 0 || !slices.ContainsFunc(t.Sheets, func(s string) bool { return strings.EqualFold(s, SheetResultsRating) }) {
+	if t.Column("item") < 0 || t.Column("value") < 0 {
 		return RatingSource{Table: t}, nil
 	}
-	src := RatingSource{Summary: true}
-	for _, rec := range t.Records {
-		if strings.EqualFold(t.Cell(rec, ci), "site") && src.Site == "" {
-			src.Site = t.Cell(rec, cv)
+	found := func(name string) string { // the workbook's name of the sheet, "" for none
+		if k := slices.IndexFunc(t.Sheets, func(s string) bool { return strings.EqualFold(s, name) }); k >= 0 {
+			return t.Sheets[k]
+		}
+		return ""
+	}
+	for _, name := range resultsRatingSheets() {
+		if s := found(name); s != "" {
+			src := RatingSource{Summary: true, Site: summaryItem(t, "site")}
+			src.Table, err = ReadTable(path, s)
+			return src, err
 		}
 	}
-	src.Table, err = ReadTable(path, SheetResultsRating)
-	return src, err
+	err = fmt.Errorf("%w (rate and backwater write theirs to a sheet named %s, fit to one named %s)", ErrNoRatingSheet, SheetResultsRating, SheetResultsFitted)
+	if s := found(SheetResultsRatings); s != "" {
+		err = fmt.Errorf("%w; its %s sheet lists every rating period used together, not one table: plot each rating file read (the summary's read from)", err, s)
+	}
+	return RatingSource{Table: t}, &ParseError{File: path, Err: err}
+}
+
+// summaryItem is the first value given of the items named item of a
+// results summary t ("" when none).
+func summaryItem(t *Table, item string) string {
+	ci, cv := t.Column("item"), t.Column("value")
+	for _, rec := range t.Records {
+		if v := t.Cell(rec, cv); strings.EqualFold(t.Cell(rec, ci), item) && v != "" {
+			return v
+		}
+	}
+	return ""
 }
 
 // ratingField is an optional column of a rating table and the field of
@@ -341,7 +394,7 @@ func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth b
 // that rate's outputs add to the section's name.
 func ratingSection(t *Table) string {
 	name := sectionName(t)
-	if t.Sheet != "" && (strings.EqualFold(t.Sheet, "rating") || strings.EqualFold(t.Sheet, "fitted rating")) {
+	if t.Sheet != "" && slices.ContainsFunc(resultsRatingSheets(), func(s string) bool { return strings.EqualFold(t.Sheet, s) }) {
 		base := filepath.Base(t.File)
 		name = strings.TrimSuffix(base, filepath.Ext(base))
 	}

@@ -6,6 +6,7 @@ import (
 	"io"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"time"
 
@@ -34,6 +35,10 @@ type RatingTableOptions struct {
 	// (length unit) of every rating read.
 	HasZeroFlow bool
 	ZeroFlow    float64
+	// ZeroFlowFlag is the flag that gives the gauge height of zero flow,
+	// named in the warning of a column of zero flows ("" for
+	// "--zero-flow").
+	ZeroFlowFlag string
 	// ZeroFlowAtDryFoot takes the gauge height of zero flow of a rating
 	// whose first row has no flow from the table itself, as a hydraulic
 	// rating written from a section begins with its dry foot: the stage
@@ -179,7 +184,7 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	if err := t.unsavedIn(cs, cq, cv, cx); err != nil {
 		return out, err
 	}
-	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, opt.HasZeroFlow, opt.ZeroFlow)...)
+	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, ZeroFlowGiven{Given: opt.HasZeroFlow, Value: opt.ZeroFlow, Flag: opt.ZeroFlowFlag})...)
 	var errs errorList
 	var groups []ratingGroup
 	vf, err := newValidFromReader(t, cv, off)
@@ -372,20 +377,22 @@ func KindOf(t *Table) TableKind {
 	return KindUnknown
 }
 
-// zeroFlowNames are the names (as normName writes them) of a column that
-// gives a rating's gauge height of zero flow, its offset, row by row: a
-// rating written as descriptor rows with an offset column. wetline reads
-// no such column (see zeroFlowWarning); "offset" followed by a number
-// (offset1, offset_2) is one too.
-var zeroFlowNames = []string{"offset", "e", "gzf", "pzf", "ctf", "zero_flow", "zero_flow_stage",
-	"gauge_height_of_zero_flow", "gage_height_of_zero_flow", "gh_of_zero_flow", "stage_of_zero_flow",
-	"point_of_zero_flow", "cease_to_flow"}
+// zeroFlowNames returns the names (as normName writes them) of a column
+// that gives a rating's gauge height of zero flow, its offset, row by row:
+// a rating written as descriptor rows with an offset column. wetline reads
+// no such column (see zeroFlowWarnings); "offset" followed by a number
+// (offset1, offset_2) is one too. The slice is new on every call.
+func zeroFlowNames() []string {
+	return []string{"offset", "e", "gzf", "pzf", "ctf", "zero_flow", "zero_flow_stage",
+		"gauge_height_of_zero_flow", "gage_height_of_zero_flow", "gh_of_zero_flow", "stage_of_zero_flow",
+		"point_of_zero_flow", "cease_to_flow"}
+}
 
 // isZeroFlowName reports a header naming a gauge height of zero flow (see
 // zeroFlowNames).
 func isZeroFlowName(h string) bool {
 	n := normName(h)
-	if slices.Contains(zeroFlowNames, n) {
+	if slices.Contains(zeroFlowNames(), n) {
 		return true
 	}
 	rest, ok := strings.CutPrefix(n, "offset")
@@ -393,13 +400,32 @@ func isZeroFlowName(h string) bool {
 	return ok && rest != "" && strings.Trim(rest, "0123456789") == ""
 }
 
+// ZeroFlowGiven is the gauge height of zero flow given with a rating
+// table read (length unit, when Given) and the flag it is given with ("",
+// and for every value, "--zero-flow"): what the warning of a column of
+// zero flows in the table says (see zeroFlowWarnings).
+type ZeroFlowGiven struct {
+	Given bool
+	Value float64
+	Flag  string
+}
+
+// flag is the flag giving the zero flow: Flag, or "--zero-flow".
+func (z ZeroFlowGiven) flag() string {
+	if z.Flag == "" {
+		return "--zero-flow"
+	}
+	return z.Flag
+}
+
 // zeroFlowWarnings warns of each column of a rating table that names a
 // gauge height of zero flow (see zeroFlowNames): it is not read, its
 // values (the distinct ones, in order) are said, and how zero flow is
-// given instead. zeroFlow, when given (has), is the --zero-flow value of
-// the table: a column holding that one value alone is not warned of.
-func zeroFlowWarnings(t *Table, has bool, zeroFlow float64) []string {
+// given instead, by zero's flag. A column holding the one value zero
+// gives is not warned of; one holding another says the value given.
+func zeroFlowWarnings(t *Table, zero ZeroFlowGiven) []string {
 	var out []string
+	flag := zero.flag()
 	for c, h := range t.Header {
 		if !isZeroFlowName(h) {
 			continue
@@ -415,12 +441,16 @@ func zeroFlowWarnings(t *Table, has bool, zeroFlow float64) []string {
 		if len(values) == 0 {
 			continue
 		}
-		if len(values) == 1 && has {
-			if v, err := ParseNumber(values[0]); err == nil && v == zeroFlow {
+		if len(values) == 1 && zero.Given {
+			if v, err := ParseNumber(values[0]); err == nil && v == zero.Value {
 				continue
 			}
 		}
-		why := fmt.Sprintf("yet names a gauge height of zero flow (it holds %s): give the table's with --zero-flow (one value a rating file)", strings.Join(values, ", "))
+		why := fmt.Sprintf("yet names a gauge height of zero flow (it holds %s): give the table's with %s (one value a rating file)", strings.Join(values, ", "), flag)
+		if zero.Given {
+			given := strconv.FormatFloat(zero.Value, 'g', -1, 64)
+			why = fmt.Sprintf("yet names a gauge height of zero flow (it holds %s), where %s gives %s (one value a rating file): check which is the table's", strings.Join(values, ", "), flag, given)
+		}
 		if len(values) > 1 {
 			why += "; a rating whose periods have their own zero flow takes a file each (--rating FILE@TIME), and one with an offset for each segment is read rightly only from rows close enough that the offset does not matter between them (its expanded table)"
 		}

@@ -302,28 +302,35 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 // TestZeroFlowColumnWarned: a rating table's column naming a gauge height
 // of zero flow (a descriptor table with an offset on each row) is not
 // read; both rating readers warn of it at its header, with its values and
-// how zero flow is given, the rating periods' reader not when the column
-// holds the one --zero-flow given (the other reader is given none).
+// how zero flow is given, by the flag that gives it, not when the column
+// holds the one zero flow given, and naming the value given when it holds
+// another.
 func TestZeroFlowColumnWarned(t *testing.T) {
 	const unread = "this column is not read"
 	for _, tc := range []struct {
 		name, csv string
 		opt       RatingTableOptions
-		want, one string // the warnings of each reader hold them; "" for none
+		want      string // both readers' warnings hold it; "" for none
 	}{
 		// The offsets of the two segments of a published two-offset
 		// rating (testdata/reference/rating-12323720-two-offsets.csv).
 		{"two offsets", "stage (ft),discharge (ft3/s),offset (ft)\n3.66,0.78,3.58\n4.87,61.27,3.58\n6.59,243.71,3.30\n", RatingTableOptions{},
-			"r.csv:1:3: offset (ft): this column is not read, yet names a gauge height of zero flow (it holds 3.58, 3.30): give the table's with --zero-flow", "an offset for each segment"},
+			"r.csv:1:3: offset (ft): this column is not read, yet names a gauge height of zero flow (it holds 3.58, 3.30): give the table's with --zero-flow"},
 		{"two offsets with one --zero-flow", "stage,discharge,offset\n3.66,0.78,3.58\n4.87,61.27,3.58\n6.59,243.71,3.30\n",
-			RatingTableOptions{HasZeroFlow: true, ZeroFlow: 3.58}, "an offset for each segment", unread},
-		{"e", "stage,discharge,e\n1,2,0.5\n2,5,\n", RatingTableOptions{}, "r.csv:1:3: e: " + unread, unread},
-		{"zero flow", "stage,discharge,Zero Flow\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "(it holds 0.5)", unread},
-		{"gzf", "gauge_height,discharge,GZF\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "GZF: " + unread, unread},
-		{"offset1", "stage,discharge,offset1\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "offset1: " + unread, unread},
-		{"the one --zero-flow given", "stage,discharge,offset\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.5}, "", unread},
-		{"blank", "stage,discharge,offset\n1,2,\n2,5,\n", RatingTableOptions{}, "", ""},
-		{"another column", "stage,discharge,offsets_note\n1,2,x\n2,5,y\n", RatingTableOptions{}, "", ""},
+			RatingTableOptions{HasZeroFlow: true, ZeroFlow: 3.58}, "(it holds 3.58, 3.30), where --zero-flow gives 3.58 (one value a rating file): check which is the table's; a rating whose periods"},
+		{"e", "stage,discharge,e\n1,2,0.5\n2,5,\n", RatingTableOptions{}, "r.csv:1:3: e: " + unread},
+		{"zero flow", "stage,discharge,Zero Flow\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "(it holds 0.5)"},
+		{"gzf", "gauge_height,discharge,GZF\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "GZF: " + unread},
+		{"offset1", "stage,discharge,offset1\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{}, "offset1: " + unread},
+		{"the one --zero-flow given", "stage,discharge,offset\n1,2,0.5\n2,5,0.5\n", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.5}, ""},
+		{"another --zero-flow given", "stage,discharge,offset\n1,2,0.32\n2,5,0.32\n", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.3},
+			"(it holds 0.32), where --zero-flow gives 0.3 (one value a rating file): check which is the table's"},
+		{"a fit's hydraulic rating", "stage,discharge,offset\n1,2,0.32\n2,5,0.32\n", RatingTableOptions{ZeroFlowFlag: "--hydraulic-zero-flow"},
+			"give the table's with --hydraulic-zero-flow (one value a rating file)"},
+		{"its zero flow given", "stage,discharge,offset\n1,2,0.32\n2,5,0.32\n", RatingTableOptions{ZeroFlowFlag: "--hydraulic-zero-flow", HasZeroFlow: true, ZeroFlow: 0.25},
+			"where --hydraulic-zero-flow gives 0.25"},
+		{"blank", "stage,discharge,offset\n1,2,\n2,5,\n", RatingTableOptions{}, ""},
+		{"another column", "stage,discharge,offsets_note\n1,2,x\n2,5,y\n", RatingTableOptions{}, ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			rt, err := ParseRatingTables(strings.NewReader(tc.csv), "r.csv", tc.opt)
@@ -334,18 +341,17 @@ func TestZeroFlowColumnWarned(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			one, err := RatingFromTable(tab, UnitChoice{})
+			one, err := RatingFromTableGiven(tab, UnitChoice{}, ZeroFlowGiven{Given: tc.opt.HasZeroFlow, Value: tc.opt.ZeroFlow, Flag: tc.opt.ZeroFlowFlag})
 			if err != nil {
 				t.Fatal(err)
 			}
 			for _, c := range []struct {
 				reader   string
 				warnings []string
-				want     string
-			}{{"RatingTablesFromTable", rt.Warnings, tc.want}, {"RatingFromTable", one.Warnings, tc.one}} {
+			}{{"RatingTablesFromTable", rt.Warnings}, {"RatingFromTableGiven", one.Warnings}} {
 				got := strings.Join(c.warnings, "\n")
-				if c.want == "" && strings.Contains(got, unread) || c.want != "" && !strings.Contains(got, c.want) {
-					t.Errorf("%s: warnings %q, want %q", c.reader, got, c.want)
+				if tc.want == "" && strings.Contains(got, unread) || tc.want != "" && !strings.Contains(got, tc.want) {
+					t.Errorf("%s: warnings %q, want %q", c.reader, got, tc.want)
 				}
 			}
 		})

@@ -139,7 +139,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // (ErrAliasColumns). Text that is not UTF-8 is refused at the line and
 // field of the first byte that is not (ErrNotUTF8), as ParseCSV refuses
 // it. A row with a time and a blank stage is a missing reading: its time
-// is kept in Stages.Missing and counted in Blank. Times written without an offset that jump
+// is kept in Stages.Missing (its quality in Stages.MissingQuality) and
+// counted in Blank. Times written without an offset that jump
 // ahead one hour more than the record's interval, as a clock set forward
 // for daylight saving does early on a Sunday, are warned of (see
 // clockAhead).
@@ -455,8 +456,15 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 	b.lastSec, b.lastRow = sec, row
 	st := &b.out.Stages
 	if len(hs) == 0 {
+		q, ok := b.qualityOf(row, cell(b.cq))
+		if !ok {
+			return
+		}
 		b.out.Blank++
 		st.Missing = append(st.Missing, sec)
+		if b.cq >= 0 {
+			st.MissingQuality = append(st.MissingQuality, q)
+		}
 		return
 	}
 	h, err := parseDecimal(hs)
@@ -468,25 +476,37 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 		b.fail(row, b.cs, hs, implausible("stage", h, MaxElevation))
 		return
 	}
-	var q uint16
-	if qs := cell(b.cq); len(qs) > 0 {
-		k, ok := b.quality[string(qs)]
-		if !ok {
-			if len(st.Qualities) > math.MaxUint16 {
-				b.fail(row, b.cq, qs, ErrTooManyQualities)
-				return
-			}
-			k = uint16(len(st.Qualities))
-			st.Qualities = append(st.Qualities, string(qs))
-			b.quality[string(qs)] = k
-		}
-		q = k
+	q, ok := b.qualityOf(row, cell(b.cq))
+	if !ok {
+		return
 	}
 	st.Time = append(st.Time, sec)
 	st.Stage = append(st.Stage, h)
 	if b.cq >= 0 {
 		st.Quality = append(st.Quality, q)
 	}
+}
+
+// qualityOf is the index into the record's qualities of the quality
+// cell qs of row (0 for a blank cell), a new word added; ok is false, the
+// error gathered, when the record already holds the most words an index
+// holds (ErrTooManyQualities).
+func (b *stageBuilder) qualityOf(row int, qs []byte) (q uint16, ok bool) {
+	if len(qs) == 0 {
+		return 0, true
+	}
+	st := &b.out.Stages
+	k, seen := b.quality[string(qs)]
+	if !seen {
+		if len(st.Qualities) > math.MaxUint16 {
+			b.fail(row, b.cq, qs, ErrTooManyQualities)
+			return 0, false
+		}
+		k = uint16(len(st.Qualities))
+		st.Qualities = append(st.Qualities, string(qs))
+		b.quality[string(qs)] = k
+	}
+	return k, true
 }
 
 // finish returns the record or every error found.

@@ -9,6 +9,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -449,5 +450,33 @@ func TestOffsetsDiffer(t *testing.T) {
 		if tc.want == "" && got != "" || !strings.Contains(got, tc.want) {
 			t.Errorf("%s: %q, want %q", tc.name, got, tc.want)
 		}
+	}
+}
+
+// TestStageRecordMissingQuality: a row with a time, a blank stage and a
+// quality is a missing reading that keeps its quality
+// (Stages.MissingQuality, one per missing reading, a blank quality none);
+// a record without a quality column has none. The record is invented.
+func TestStageRecordMissingQuality(t *testing.T) {
+	t.Parallel()
+	const in = "time,stage,quality\n2025-03-04T00:00Z,0.8,A\n2025-03-04T01:00Z,,A\n2025-03-04T02:00Z,,\n2025-03-04T03:00Z,,ice\n2025-03-04T04:00Z,0.9,A\n"
+	r, err := ParseStageRecord(strings.NewReader(in), "miss.csv", StageRecordOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := r.Stages
+	var got []string
+	for _, q := range st.MissingQuality {
+		got = append(got, st.Qualities[q])
+	}
+	if want := []string{"A", "", "ice"}; len(st.Missing) != 3 || !slices.Equal(got, want) || st.Validate() != nil {
+		t.Errorf("%d missing readings with qualities %q (%v), want %q", len(st.Missing), got, st.Validate(), want)
+	}
+	if st.QualityOf(0) != "A" || st.QualityOf(1) != "A" {
+		t.Errorf("qualities of the readings %q, %q", st.QualityOf(0), st.QualityOf(1))
+	}
+	r, err = ParseStageRecord(strings.NewReader("time,stage\n2025-03-04T00:00Z,0.8\n2025-03-04T01:00Z,\n"), "plain.csv", StageRecordOptions{})
+	if err != nil || len(r.Stages.Missing) != 1 || r.Stages.MissingQuality != nil {
+		t.Errorf("no quality column: %v, missing %v, qualities %v", err, r.Stages.Missing, r.Stages.MissingQuality)
 	}
 }

@@ -34,25 +34,32 @@ var (
 	ErrZoneDisagrees = errors.New("the time's own UTC offset is not the time zone's")
 )
 
-// zoneAbbreviations are the zone abbreviations a time-zone cell may hold,
-// with their offsets from UTC in hours: UTC and GMT, and the standard and
-// daylight times of North America, each of one offset only (a project
-// choice: other abbreviations, such as IST or CST outside North America,
-// name several zones).
-var zoneAbbreviations = []struct {
+// zoneAbbreviation is a zone abbreviation a time-zone cell may hold and
+// its offset from UTC in hours.
+type zoneAbbreviation struct {
 	name  string
 	hours int64
-}{
-	{"UTC", 0}, {"GMT", 0},
-	{"EST", -5}, {"EDT", -4}, {"CST", -6}, {"CDT", -5}, {"MST", -7}, {"MDT", -6},
-	{"PST", -8}, {"PDT", -7}, {"AKST", -9}, {"AKDT", -8}, {"HST", -10},
+}
+
+// zoneAbbreviations returns the zone abbreviations a time-zone cell may
+// hold, with their offsets: UTC and GMT, and the standard and daylight
+// times of North America, each of one offset only (a project choice:
+// other abbreviations, such as IST or CST outside North America, name
+// several zones). An array, so that a lookup allocates nothing.
+func zoneAbbreviations() [13]zoneAbbreviation {
+	return [13]zoneAbbreviation{
+		{"UTC", 0}, {"GMT", 0},
+		{"EST", -5}, {"EDT", -4}, {"CST", -6}, {"CDT", -5}, {"MST", -7}, {"MDT", -6},
+		{"PST", -8}, {"PDT", -7}, {"AKST", -9}, {"AKDT", -8}, {"HST", -10},
+	}
 }
 
 // ZoneAbbreviations returns the zone abbreviations ParseZone reads, in
 // order. The slice is new on every call.
 func ZoneAbbreviations() []string {
-	out := make([]string, len(zoneAbbreviations))
-	for i, z := range zoneAbbreviations {
+	zs := zoneAbbreviations()
+	out := make([]string, len(zs))
+	for i, z := range zs {
 		out[i] = z.name
 	}
 	return out
@@ -94,7 +101,7 @@ func zoneValue[T string | []byte](b T) (int64, error) {
 			}
 			up[i] = c
 		}
-		for _, z := range zoneAbbreviations {
+		for _, z := range zoneAbbreviations() {
 			if z.name == string(up[:n]) {
 				return z.hours * 3600, nil
 			}

@@ -268,7 +268,8 @@ type hydraulicZero struct {
 // returned). A zero-flow stage at or above a
 // row with flow is an error naming the flag.
 func readHydraulicTable(path, sheet string, datum float64, zero hydraulicZero, units *unitsDecided) (*gauged.TableRating, []string, string, error) {
-	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true, HasZeroFlow: zero.given, ZeroFlow: zero.e}
+	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true, HasZeroFlow: zero.given, ZeroFlow: zero.e,
+		ZeroFlowFlag: "--hydraulic-zero-flow"}
 	rt, err := survey.ReadRatingTables(path, opt)
 	if zero.given && errors.Is(err, gauged.ErrZeroFlowAbove) {
 		return nil, nil, "", fmt.Errorf("fit: --hydraulic-zero-flow %s: %w", strconv.FormatFloat(zero.e, 'g', -1, 64), err)

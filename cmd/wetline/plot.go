@@ -99,13 +99,13 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
-	t, err := survey.RatingFromTable(src.Table, u)
+	t, err := survey.RatingFromTableGiven(src.Table, u, survey.ZeroFlowGiven{Given: fs.Changed("zero-flow"), Value: f.zeroFlow})
 	if errors.Is(err, survey.ErrUnitsDisagree) {
 		return fmt.Errorf("%w (%s units set by %s)", err, u.Units, by)
 	}
 	if errors.Is(err, survey.ErrMissingColumn) && tableSheet == "" {
 		if other := survey.OtherRatingSheet(src.Table); other != "" {
-			return fmt.Errorf("%w; sheet %s holds a rating table: give --table-sheet %s", err, other, survey.SheetArg(other))
+			return fmt.Errorf("%w; sheet %s holds a rating table: give --table-sheet %s", err, survey.SheetArg(other), survey.SheetArg(other))
 		}
 	}
 	if err != nil {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"os"
 	"path/filepath"
 	"strings"
@@ -118,4 +119,71 @@ func TestFigureSite(t *testing.T) {
 			t.Errorf("%s: site %q, want %q", tc.name, got, tc.want)
 		}
 	}
+}
+
+// TestPlotResultsWorkbookKinds: plot of a results workbook, no sheet
+// named, reads the sheet wetline writes its rating to: fit's fitted
+// rating (its gaugings sheet, the first with stage and discharge columns,
+// is no rating table: its stages do not increase); a record's workbook
+// has none to redraw, and says so, pointing away from its ratings sheet
+// (every period together). With its summary renamed, the hint names only
+// a sheet that reads as a rating table: fit's fitted rating, none of a
+// record's (its unit values are a hydrograph). The inputs are the tests'
+// invented gaugings, stage record and rating.
+func TestPlotResultsWorkbookKinds(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	fitBook, recBook := filepath.Join(dir, "fit.xlsx"), filepath.Join(dir, "rec.xlsx")
+	for _, args := range [][]string{
+		{"fit", fitDemoGaugings, "--method", "lsq", "--site", "Tallow (invented)", "-o", fitBook},
+		{"record", recStages, "--rating", recRatingA, "--units", "si", "-o", recBook},
+	} {
+		if _, errs, code := runCLI(t, args...); code != 0 {
+			t.Fatalf("%s: exit %d: %s", args[0], code, errs)
+		}
+	}
+	src, err := survey.ReadRatingSource(fitBook, "")
+	if err != nil || !src.Summary || src.Table.Sheet != "fitted rating" || src.Site != "Tallow (invented)" {
+		t.Fatalf("fit workbook: %v, summary %v, sheet %q, site %q", err, src.Summary, sheetOf(src), src.Site)
+	}
+	out := filepath.Join(dir, "figs")
+	if _, errs, code := runCLI(t, "plot", fitBook, "-o", out); code != 0 {
+		t.Errorf("plot of a fit workbook: exit %d: %s", code, errs)
+	}
+	_, errs, code := runCLI(t, "plot", recBook, "-o", out)
+	if want := recBook + ": a results workbook with no rating table to redraw"; code != 1 || !strings.Contains(errs, want) ||
+		!strings.Contains(errs, "its ratings sheet lists every rating period used together") || strings.Contains(errs, "--table-sheet") {
+		t.Errorf("plot of a record workbook: exit %d: %s\nwant %q", code, errs, want)
+	}
+	if _, err := survey.ReadRatingSource(recBook, ""); !errors.Is(err, survey.ErrNoRatingSheet) {
+		t.Errorf("record workbook: %v, want %v", err, survey.ErrNoRatingSheet)
+	}
+	for _, tc := range []struct {
+		name, book, hint string // hint "" for none
+	}{
+		{"fit", fitBook, "; sheet 'fitted rating' holds a rating table: give --table-sheet 'fitted rating'"},
+		{"record", recBook, ""},
+	} {
+		f := openBook(t, tc.book)
+		if err := f.SetSheetName("summary", "notes"); err != nil {
+			t.Fatal(err)
+		}
+		renamed := filepath.Join(dir, "renamed-"+tc.name+".xlsx")
+		if err := f.SaveAs(renamed); err != nil {
+			t.Fatal(err)
+		}
+		_, errs, code := runCLI(t, "plot", renamed, "-o", out)
+		if code != 1 || !strings.Contains(errs, "missing column") || tc.hint == "" && strings.Contains(errs, "holds a rating table") ||
+			tc.hint != "" && !strings.Contains(errs, tc.hint) {
+			t.Errorf("%s, summary renamed: exit %d: %s\nwant hint %q", tc.name, code, errs, tc.hint)
+		}
+	}
+}
+
+// sheetOf is the sheet of a rating source's table ("" for none).
+func sheetOf(src survey.RatingSource) string {
+	if src.Table == nil {
+		return ""
+	}
+	return src.Table.Sheet
 }

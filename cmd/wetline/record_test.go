@@ -98,8 +98,9 @@ func firstOf(t *testing.T, data []byte, key string) []byte {
 }
 
 // TestRecordJSONContract: the record's JSON has the keys of the contract,
-// in order, then the site (added after them, as every report's JSON adds
-// keys), and its rows have exactly the keys of the contract.
+// in order, then the site, units and the input notes (added after them, as
+// every report's JSON adds keys; its ratings name no unit, so it has
+// notes), and its rows have exactly the keys of the contract.
 func TestRecordJSONContract(t *testing.T) {
 	t.Parallel()
 	out, errs, code := runCLI(t, recordArgs("--format", "json")...)
@@ -110,7 +111,7 @@ func TestRecordJSONContract(t *testing.T) {
 	for _, c := range []struct {
 		got, want []string
 	}{
-		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site", "units"}},
+		{jsonKeys(t, data), []string{"unit", "daily", "ratings", "shifts", "warnings", "caution", "site", "units", "input_notes"}},
 		// Rows have the CSV tables' columns, in their order.
 		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags", "rating_period", "quality"}},
 		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags", "min_time", "readings"}},
@@ -311,6 +312,13 @@ func TestRecordFiles(t *testing.T) {
 	_, errs, code = runCLI(t, "record", recStages, "--rating", recRatingA, "--shifts", book, "--shifts-sheet", results.SheetShifts, "--format", "csv")
 	if code != 0 {
 		t.Errorf("the workbook's shifts sheet does not read back: exit %d: %s", code, errs)
+	}
+	// The ratings sheet states the periods used and does not read back as
+	// a rating file, as WriteRecordWorkbook and README say: its first
+	// period starts at "the beginning", no time.
+	_, errs, code = runCLI(t, "record", recStages, "--rating", book, "--rating-sheet", results.SheetRatings, "--format", "csv")
+	if code != 1 || !strings.Contains(errs, "['ratings']!B2: valid from \"the beginning\": not an ISO 8601 date-time") {
+		t.Errorf("the workbook's ratings sheet read as a rating file: exit %d: %s", code, errs)
 	}
 }
 

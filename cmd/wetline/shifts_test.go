@@ -44,14 +44,15 @@ func TestShiftsGolden(t *testing.T) {
 }
 
 // TestShiftsJSONKeys: the check's JSON keys come in their documented
-// order, and so do a gauging's.
+// order (input_notes last: its rating names no unit), and so do a
+// gauging's.
 func TestShiftsJSONKeys(t *testing.T) {
 	t.Parallel()
 	out, errs, code := runCLI(t, shiftsArgs("--format", "json")...)
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if got := strings.Join(jsonKeys(t, []byte(out)), ","); got != "units,gaugings,visits,ratings,shifts,warnings,caution,site" {
+	if got := strings.Join(jsonKeys(t, []byte(out)), ","); got != "units,gaugings,visits,ratings,shifts,warnings,caution,site,input_notes" {
 		t.Errorf("keys %s", got)
 	}
 	if got := jsonKeys(t, firstOf(t, []byte(out), "gaugings")); strings.Join(got, ",") != strings.Join(results.ShiftGaugingColumns(), ",") {

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -95,6 +96,57 @@ func TestUnitsAssumedNoteWritten(t *testing.T) {
 				if !strings.Contains(errs, "input: "+survey.UnitsAssumedNote(f)) {
 					t.Errorf("no note of %s:\n%s", f, errs)
 				}
+			}
+		})
+	}
+}
+
+// TestUnitsAssumedNoteInReports: the note of a rating table read in SI
+// units by default reaches record's and shifts's JSON (input_notes, the
+// last key, as rate's and fit's JSON carry their input notes) and their
+// workbooks' summaries (input note), as it reaches their text reports;
+// with --units there is no note and no key. The tables are the invented
+// ones of the tests of record and shifts.
+func TestUnitsAssumedNoteInReports(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	o := func(name string) string { return filepath.Join(dir, name) }
+	note := survey.UnitsAssumedNote(recRatingA)
+	for _, tc := range []struct {
+		name string
+		args []string
+	}{
+		{"record", []string{"record", recStages, "--rating", recRatingA}},
+		{"shifts", []string{"shifts", recGaugings, "--rating", recRatingA}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, append(tc.args, "--format", "json")...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			var doc map[string]json.RawMessage
+			dec := json.NewDecoder(strings.NewReader(out))
+			if err := dec.Decode(&doc); err != nil {
+				t.Fatal(err)
+			}
+			var notes []string
+			if err := json.Unmarshal(doc["input_notes"], &notes); err != nil || len(notes) != 1 || notes[0] != note {
+				t.Errorf("input_notes %s (%v), want [%q]", doc["input_notes"], err, note)
+			}
+			if keys := jsonKeys(t, []byte(out)); len(keys) == 0 || keys[len(keys)-1] != "input_notes" {
+				t.Errorf("keys %q: input_notes is not the last", keys)
+			}
+			out, errs, code = runCLI(t, append(tc.args, "--format", "json", "--units", "si")...)
+			if code != 0 || strings.Contains(out, "input_notes") {
+				t.Errorf("--units si: exit %d, input_notes written: %s", code, errs)
+			}
+			book := o(tc.name + ".xlsx")
+			if _, errs, code := runCLI(t, append(tc.args, "-o", book)...); code != 0 {
+				t.Fatalf("workbook: exit %d: %s", code, errs)
+			}
+			if got := summary(t, openBook(t, book))["input note"]; got != note {
+				t.Errorf("summary input note %q, want %q", got, note)
 			}
 		})
 	}

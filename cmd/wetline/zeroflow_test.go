@@ -1,6 +1,8 @@
 package main
 
 import (
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -46,6 +48,49 @@ func TestZeroFlowFlagErrors(t *testing.T) {
 				if !strings.Contains(msg, w) {
 					t.Errorf("error %q does not contain %q", msg, w)
 				}
+			}
+		})
+	}
+}
+
+// TestZeroFlowColumnNamesTheFlag: the warning of a rating table's unread
+// column of zero flows names the flag that gives the table's zero flow in
+// that command (fit's --hydraulic-zero-flow, as fit's --zero-flow is the
+// fitted offset), is not given when plot's --zero-flow is the column's one
+// value, and names the value given when it is another. The table is
+// invented, its offset column 0.32 m on every row.
+func TestZeroFlowColumnNamesTheFlag(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	table := filepath.Join(dir, "offset-rating.csv")
+	if err := os.WriteFile(table, []byte("stage,discharge,offset\n0.35,0.005,0.32\n0.5,0.22,0.32\n1.0,2.9,0.32\n2.0,16.5,0.32\n3.0,42.0,0.32\n4.0,80.0,0.32\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	const unread = "offset: this column is not read"
+	for _, tc := range []struct {
+		name string
+		args []string
+		want string // "" for no warning of the column
+	}{
+		{"plot", []string{"plot", table, "-o", dir}, "(it holds 0.32): give the table's with --zero-flow (one value a rating file)"},
+		{"plot, the column's value given", []string{"plot", table, "--zero-flow", "0.32", "-o", dir}, ""},
+		{"plot, another given", []string{"plot", table, "--zero-flow", "0.3", "-o", dir}, "(it holds 0.32), where --zero-flow gives 0.3 (one value a rating file): check which is the table's"},
+		{"fit", []string{"fit", fitDemoGaugings, "--hydraulic-rating", table, "--compare-only"}, "(it holds 0.32): give the table's with --hydraulic-zero-flow (one value a rating file)"},
+		{"fit, the column's value given", []string{"fit", fitDemoGaugings, "--hydraulic-rating", table, "--hydraulic-zero-flow", "0.32", "--compare-only"}, ""},
+		{"record", []string{"record", recStages, "--rating", table, "--zero-flow", "0.3"}, "(it holds 0.32), where --zero-flow gives 0.3"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			out, errs, code := runCLI(t, tc.args...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			all := out + errs
+			switch {
+			case tc.want == "" && strings.Contains(all, unread):
+				t.Errorf("the column holding the value given is warned of:\n%s", all)
+			case tc.want != "" && !strings.Contains(all, unread+", yet names a gauge height of zero flow "+tc.want):
+				t.Errorf("output:\n%s\nwant %q", all, tc.want)
 			}
 		})
 	}

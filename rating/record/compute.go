@@ -259,14 +259,14 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
-	missing := st.Missing
+	missing, missingQ := st.Missing, st.MissingQuality
 	st, units, codes, dropped := rateReadings(st, r, zone(off))
 	if len(st.Time) == 0 { // every reading read as a missing-value code
 		return nil, fmt.Errorf("%w: %s; so every reading is missing. Are the stage record and the rating on the same gauge datum "+
 			"(a rating of elevations needs the gauge's datum), and in the same unit?", ErrNoDischarge, codes)
 	}
 	res := &Result{
-		Name: st.Name, Units: units, Missing: missingValues(missing, dropped), Qualities: append([]string(nil), st.Qualities...),
+		Name: st.Name, Units: units, Missing: missingValues(missing, missingQ, dropped), Qualities: append([]string(nil), st.Qualities...),
 		MaxGap: time.Duration(maxGap) * time.Second, UTCOffset: time.Duration(off) * time.Second,
 		Zone: zone(off), UnitSystem: opt.UnitSystem, StageTolerance: tol,
 	}
@@ -457,10 +457,11 @@ func missingValue(t int64, h float64, q uint16) UnitValue {
 	return UnitValue{Time: t, Stage: h, Shift: math.NaN(), Effective: math.NaN(), Discharge: math.NaN(), Period: -1, Quality: q, Flags: Missing}
 }
 
-// missingValues merges the times of readings with no stage and the unit
-// values of the readings left out as codes (both ascending) into the
-// missing readings of a Result, in time order.
-func missingValues(blank []int64, codes []UnitValue) []UnitValue {
+// missingValues merges the times of readings with no stage (and their
+// qualities, when not nil, one per time) and the unit values of the
+// readings left out as codes (both ascending) into the missing readings
+// of a Result, in time order.
+func missingValues(blank []int64, quality []uint16, codes []UnitValue) []UnitValue {
 	if len(blank)+len(codes) == 0 {
 		return nil
 	}
@@ -468,7 +469,11 @@ func missingValues(blank []int64, codes []UnitValue) []UnitValue {
 	i, j := 0, 0
 	for i < len(blank) || j < len(codes) {
 		if j == len(codes) || i < len(blank) && blank[i] < codes[j].Time {
-			out = append(out, missingValue(blank[i], math.NaN(), 0))
+			var q uint16
+			if quality != nil {
+				q = quality[i]
+			}
+			out = append(out, missingValue(blank[i], math.NaN(), q))
 			i++
 			continue
 		}

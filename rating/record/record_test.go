@@ -602,3 +602,39 @@ func TestMissingReadings(t *testing.T) {
 		t.Errorf("missing readings out of order: %v, want %v", err, ErrStagesOrder)
 	}
 }
+
+// TestMissingReadingQuality: a missing reading written with a quality
+// keeps it in the unit values (Stages.MissingQuality), as a reading read
+// as a missing-value code keeps its own; a record whose missing readings
+// carry no qualities lists them with none; qualities that do not match
+// the missing readings, or are not among Qualities, are refused.
+func TestMissingReadingQuality(t *testing.T) {
+	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
+	st := stages(0, 1, 1.5, -9999, 2, 3)
+	st.Qualities = []string{"", "A", "B"}
+	st.Quality = []uint16{1, 2, 1}
+	st.Missing = []int64{at(0.5), at(3)}
+	st.MissingQuality = []uint16{1, 0}
+	res := compute(t, st, r, Options{})
+	var got []string
+	for u := range res.UnitRows() {
+		got = append(got, res.Qualities[u.Quality])
+	}
+	if want := []string{"A", "A", "B", "A", ""}; !slices.Equal(got, want) {
+		t.Errorf("qualities of the unit rows %q, want %q", got, want)
+	}
+	st.MissingQuality = nil
+	res = compute(t, st, r, Options{})
+	if q := res.Missing[0].Quality; q != 0 {
+		t.Errorf("missing reading without a quality given: quality %d, want 0", q)
+	}
+	for _, tc := range []struct {
+		name string
+		q    []uint16
+	}{{"one short", []uint16{1}}, {"not among Qualities", []uint16{1, 3}}} {
+		st.MissingQuality = tc.q
+		if _, err := Compute(st, r, Options{}); !errors.Is(err, ErrStagesLength) && !errors.Is(err, ErrQualityIndex) {
+			t.Errorf("%s: %v", tc.name, err)
+		}
+	}
+}

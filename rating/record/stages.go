@@ -28,6 +28,10 @@ type Stages struct {
 	// no gauge height. They are listed in the unit values, flagged
 	// Missing, and take no part in any computation.
 	Missing []int64
+	// MissingQuality, when not nil, holds each missing reading's quality
+	// as an index into Qualities (0 for none), one per Missing, so that
+	// the unit values list it as they list a reading's.
+	MissingQuality []uint16
 }
 
 // Len is the number of readings.
@@ -78,7 +82,8 @@ func (e *StagesError) Unwrap() error { return e.Err }
 // *StagesError, or nil: arrays of unequal length, times outside the years
 // 0001 to 9999 (ErrStagesTime) or not ascending, a first and a last reading
 // more than MaxSpan apart (ErrStagesSpan), gauge heights not finite,
-// qualities not among Qualities.
+// qualities not among Qualities (of the readings or the missing readings,
+// whose qualities, when given, are one per missing reading).
 func (s *Stages) Validate() error {
 	n := len(s.Time)
 	if n == 0 {
@@ -99,6 +104,14 @@ func (s *Stages) Validate() error {
 		}
 		if s.Quality != nil && int(s.Quality[i]) >= max(1, len(s.Qualities)) {
 			return &StagesError{Index: i, Err: ErrQualityIndex}
+		}
+	}
+	if s.MissingQuality != nil && len(s.MissingQuality) != len(s.Missing) {
+		return &StagesError{Index: -1, Err: fmt.Errorf("%w: %d missing readings, %d qualities", ErrStagesLength, len(s.Missing), len(s.MissingQuality))}
+	}
+	for i, q := range s.MissingQuality {
+		if int(q) >= max(1, len(s.Qualities)) {
+			return &StagesError{Index: -1, Err: fmt.Errorf("missing reading %d: %w", i+1, ErrQualityIndex)}
 		}
 	}
 	for i, t := range s.Missing {

@@ -20,7 +20,7 @@ const (
 	// SheetGaugings is the field workbook's gaugings sheet name, so that
 	// a fit workbook's gaugings read back as gaugings.
 	SheetGaugings  = survey.FieldSheetGaugings
-	SheetFitTable  = "fitted rating"
+	SheetFitTable  = survey.SheetResultsFitted
 	SheetBands     = "bands"
 	SheetPosterior = "posterior"
 	SheetNByStage  = "n by stage"

@@ -248,9 +248,11 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 //
 //	{"unit": [{"time", "stage", "shift", "effective_stage", "discharge", "flags", "rating_period", "quality"}],
 //	 "daily": [{"date", "mean", "min", "max", "max_time", "coverage", "flags", "min_time", "readings"}],
-//	 "ratings", "shifts", "warnings", "caution", "site", "units"}
+//	 "ratings", "shifts", "warnings", "caution", "site", "units", "input_notes"}
 //
-// unit or daily is null when the table was not asked for. Times are ISO
+// unit or daily is null when the table was not asked for; input_notes,
+// the notes of the inputs (a rating table naming no unit, read as the
+// units decided), is left out when there are none. Times are ISO
 // 8601 with the record's offset and flags lists of words; undefined values
 // are null. ratings lists the rating periods used (period, from, to — null
 // at an open end —, rating, zero_flow, highest_gauging, extrapolate,
@@ -301,14 +303,18 @@ func WriteRecordJSON(w io.Writer, res *record.Result, tables RecordTables) error
 		rw.w.WriteString(listEnd(len(res.Daily)))
 	}
 	ps, ss := recordInfo(res)
-	return writeJSONTail(rw.w, []tailItem{
+	tail := []tailItem{
 		{"ratings", jsonPeriods(ps, res.Zone)},
 		{"shifts", jsonShifts(ss, res.Zone)},
 		{"warnings", nonNil(res.Warnings)},
 		{"caution", recordCaution(record.ProvisionalNote)},
 		{"site", siteJSON(res.Provenance.Site)},
 		{"units", UnitNames(res.UnitSystem)},
-	})
+	}
+	if len(res.Provenance.Notes) > 0 {
+		tail = append(tail, tailItem{"input_notes", res.Provenance.Notes})
+	}
+	return writeJSONTail(rw.w, tail)
 }
 
 // listEnd closes a list written row by row.

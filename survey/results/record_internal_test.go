@@ -4,6 +4,10 @@ import (
 	"math"
 	"math/rand/v2"
 	"testing"
+	"time"
+
+	"wetline/rating/record"
+	"wetline/survey"
 )
 
 // TestAppendMatchesFormat: the row writers' appenders write every value as
@@ -22,6 +26,37 @@ func TestAppendMatchesFormat(t *testing.T) {
 		}
 		if got, want := string(appendLength([]byte("x,"), v)), "x,"+FormatLength(v); got != want {
 			t.Errorf("appendLength(%v) = %q, FormatLength %q", v, got, want)
+		}
+	}
+}
+
+// TestZoneCell: the tz cell of a record workbook's ratings and shifts
+// sheets is record.FormatOffset's ±HH:MM (or "UTC"), and reads back with
+// survey.ParseZone as the zone's offset, west and part-hour offsets
+// among them (invented zones; offsets of civil time are whole minutes).
+func TestZoneCell(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		off  time.Duration
+		want string
+	}{
+		{0, "UTC"},
+		{10 * time.Hour, "+10:00"},
+		{-5 * time.Hour, "-05:00"},
+		{-30 * time.Minute, "-00:30"},
+		{5*time.Hour + 45*time.Minute, "+05:45"},
+		{-(9*time.Hour + 30*time.Minute), "-09:30"},
+	} {
+		z := time.FixedZone("", int(tc.off/time.Second))
+		got := zoneCell(z)
+		if got != tc.want {
+			t.Errorf("zoneCell(%v) = %q, want %q", tc.off, got, tc.want)
+		}
+		if tc.off != 0 && got != record.FormatOffset(tc.off) {
+			t.Errorf("zoneCell(%v) = %q, record.FormatOffset %q", tc.off, got, record.FormatOffset(tc.off))
+		}
+		if back, err := survey.ParseZone(got); err != nil || back != tc.off {
+			t.Errorf("ParseZone(%q) = %v, %v; want %v", got, back, err, tc.off)
 		}
 	}
 }

@@ -18,7 +18,7 @@ import (
 const (
 	SheetDaily     = "daily values"
 	SheetUnit      = "unit values"
-	SheetRatings   = "ratings"
+	SheetRatings   = survey.SheetResultsRatings
 	SheetShifts    = "shifts"
 	SheetProposals = "proposed shifts"
 )
@@ -56,15 +56,17 @@ func wallClock(t time.Time, z *time.Location) time.Time {
 // WriteRecordWorkbook writes the results workbook of a record to w.
 // Sheets:
 //
-//   - summary: the stage record, the files read, program, units, the zone
-//     of the days, the maximum gap, every rating period and shift diagram
-//     used, the flag counts, the provisional note, the warnings and the
-//     caution;
+//   - summary: the stage record, the files read, program, site, the input
+//     notes (a rating table naming no unit), units, the zone of the days,
+//     the maximum gap, every rating period and shift diagram used, the
+//     flag counts, the provisional note, the warnings and the caution;
 //   - daily values: RecordDailyColumns(), dates and times in the record's
 //     zone;
 //   - unit values: RecordUnitColumns(), when asked for;
 //   - ratings: every period's table (period, valid_from, rating, stage,
-//     discharge, tz), the period's start a date cell with its zone;
+//     discharge, tz), the period's start a date cell with its zone, for
+//     reading: it does not read back as a rating file (see
+//     writeRatingsSheet);
 //   - shifts: the diagrams used in the columns of a shift table
 //     (survey.ShiftColumns(), times as date cells), the rating period,
 //     the source and the times' zone (tz), so the sheet reads back as
@@ -148,6 +150,9 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"read from", joinInputs(res.Provenance.Inputs), ""},
 		{"program", programName(res.Provenance), ""},
 		{"site", res.Provenance.Site.String(), ""},
+	}
+	items = append(items, inputNoteItems(res.Provenance)...)
+	items = append(items, []SummaryItem{
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"readings", len(res.Units), ""},
 		{"missing readings (flagged missing in the unit values)", len(res.Missing), ""},
@@ -155,7 +160,7 @@ func writeRecordSummary(b *workbook.Book, res *record.Result) error {
 		{"days taken in", zoneName(res.Zone), ""},
 		{"longest gap bridged", record.FormatDuration(res.MaxGap), ""},
 		{"method", "effective gauge height h + s(t, h), discharge from the rating in force; daily mean time-weighted by the trapezoidal rule over the covered part of the day (Kennedy, 1983, USGS TWRI 3-A13)", ""},
-	}
+	}...)
 	if n := len(res.Units); n > 0 {
 		items = append(items,
 			SummaryItem{"first reading", time.Unix(res.Units[0].Time, 0).In(res.Zone).Format(RecordTimeLayout), ""},
@@ -263,9 +268,14 @@ func writeUnitSheet(b *workbook.Book, res *record.Result) error {
 // its first row.
 //
 // A period's start is a date cell at the wall clock of zone z, its zone in
-// the tz column after the others (see zoneCell), so that the sheet reads
-// back at the same instants whatever offset the reader is given; the
-// first period's open start is the text "the beginning".
+// the tz column after the others (see zoneCell), so that the instant is
+// plain whatever zone the reader works in; the first period's open start
+// is the text "the beginning", and a period without a rating one row
+// without stage or discharge. The sheet states the periods used; it does
+// not read back as a rating file (a rating reader wants a time on a
+// valid_from column's first row, and a period's zero flow, highest
+// gauging and extrapolation are in the summary only): the rating files
+// the record read are its ratings.
 func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u rating.Units) error {
 	s, err := reportTable(b, SheetRatings, []workbook.Column{
 		{Name: "period", Format: "0"},
@@ -303,17 +313,14 @@ func writeRatingsSheet(b *workbook.Book, ps []periodInfo, z *time.Location, u ra
 }
 
 // zoneCell is the time-zone cell of times written at the wall clock of
-// zone z: its offset as survey.ParseZone reads it ("UTC", "+10:00").
+// zone z: "UTC" for no offset, else its offset as record.FormatOffset
+// writes it ("+10:00"), both as survey.ParseZone reads them.
 func zoneCell(z *time.Location) string {
 	_, off := time.Unix(0, 0).In(z).Zone()
 	if off == 0 {
 		return "UTC"
 	}
-	sign := "+"
-	if off < 0 {
-		sign, off = "-", -off
-	}
-	return fmt.Sprintf("%s%02d:%02d", sign, off/3600, off/60%60)
+	return record.FormatOffset(time.Duration(off) * time.Second)
 }
 
 // writeShiftsSheet writes diagrams in the columns of a shift table, times

@@ -173,9 +173,11 @@ type jsonVisit struct {
 //	  "applied_shift", "residual_shift", "shifted", "shifted_departure_percent",
 //	  "outside_band_shifted", "visit", "source", "flags", "exclude"}],
 //	 "visits": [{"visit", "time", "gaugings", "proposal": [{"stage", "shift"}]}],
-//	 "ratings", "shifts", "warnings", "caution"}
+//	 "ratings", "shifts", "warnings", "caution", "site", "input_notes"}
 //
-// ratings and shifts state the rating periods and the diagrams applied, as
+// input_notes, the notes of the inputs (a rating table naming no unit,
+// read as the units decided), is left out when there are none. ratings
+// and shifts state the rating periods and the diagrams applied, as
 // the record's JSON does; a visit's gaugings are the sources of its
 // gaugings and its proposal is empty when it proposes no diagram; a
 // gauging's exclude is the reason it is left out ("" when kept).
@@ -192,8 +194,9 @@ func WriteShiftsJSON(w io.Writer, c *gauged.ShiftCheck) error {
 		Warnings []string           `json:"warnings"`
 		Caution  string             `json:"caution"`
 		Site     *jsonSite          `json:"site"`
+		Notes    []string           `json:"input_notes,omitempty"`
 	}{Units: UnitNames(c.Units), Gaugings: []jsonShiftGauging{}, Visits: []jsonVisit{}, Warnings: nonNil(c.Warnings), Caution: recordCaution(record.ProvisionalNote),
-		Site: siteJSON(c.Provenance.Site)}
+		Site: siteJSON(c.Provenance.Site), Notes: c.Provenance.Notes}
 	for i, g := range c.Gaugings {
 		jg := jsonShiftGauging{Time: g.Time.In(z).Format(RecordTimeLayout), Stage: Float(g.Stage), Discharge: Float(g.Discharge), Quality: g.Quality.String(),
 			Rated: Float(g.Rated), Departure: Float(g.Departure), Outside: g.Outside, Shift: Float(g.Shift), Applied: Float(g.Applied),
@@ -333,6 +336,9 @@ func writeShiftsSummary(b *workbook.Book, c *gauged.ShiftCheck, ps []periodInfo,
 		{"read from", joinInputs(c.Provenance.Inputs), ""},
 		{"program", programName(c.Provenance), ""},
 		{"site", c.Provenance.Site.String(), ""},
+	}
+	items = append(items, inputNoteItems(c.Provenance)...)
+	items = append(items, []SummaryItem{
 		{"units", fmt.Sprintf("%s: gauge heights and shifts in %s, discharge in %s", u, u.Length(), u.Discharge()), ""},
 		{"times in", zoneName(z), ""},
 		{"method", "measured shift s with Q_rating(h + s) = Q; diagrams prorated in time between visits, from no shift at a rating period's start, none applied before its time (Kennedy, 1983, USGS TWRI 3-A13)", ""},
@@ -341,7 +347,7 @@ func writeShiftsSummary(b *workbook.Book, c *gauged.ShiftCheck, ps []periodInfo,
 		{"gaugings outside their quality bands (base rating)", out, ""},
 		{"gaugings outside their quality bands (shifted rating)", outShifted, ""},
 		{"gaugings excluded (no diagram proposed from them, not counted outside their bands)", excludedCount(c), ""},
-	}
+	}...)
 	items = append(items, historyItems(ps, ss, z, u)...)
 	items = append(items, SummaryItem{"provisional", record.ProvisionalNote, ""})
 	return WriteSummarySheet(b, SheetSummary, items, c.Warnings)
