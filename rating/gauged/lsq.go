@@ -175,9 +175,8 @@ type ControlFit struct {
 	// order, those left out marked Excluded with their reason.
 	Residuals []Residual
 	// Tests are the ISO 1100-2 tests of the relation on the fitted
-	// gaugings' departures ln Q − ln Q_rating, in order of stage, the
-	// mean departure weighted as the fit weights the gaugings
-	// (WeightedRelationChecks).
+	// gaugings' departures ln Q − ln Q_rating, in order of stage, each
+	// of equal weight (RelationChecks).
 	Tests RelationTests
 	// Johnson is Johnson's three-point estimate of the first offset, a
 	// check on the fitted one.
@@ -968,7 +967,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	for i, h := range d.h {
 		dep[i] = d.y[i] - logQ(f.Rating, h)
 	}
-	f.Tests = WeightedRelationChecks(dep, d.w)
+	f.Tests = RelationChecks(dep)
 	for _, t := range []RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		if t.Failed {
 			f.Warnings = append(f.Warnings, sayf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))

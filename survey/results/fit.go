@@ -760,9 +760,9 @@ func writePosterior(p printer, post *gauged.Posterior) {
 // writeFitChecks writes the ISO tests and Johnson's check.
 func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L := r.Units.Length()
-	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; the mean departure weighted 1/σ², as the fit weights the gaugings; failed below p = %s):\n",
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2, unweighted departures in ln Q; failed below p = %s):\n",
 		sig(gauged.RelationTestLevel, shortest))
-	for i, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		verdict := "passes"
 		if t.Failed {
 			verdict = "FAILS"
@@ -770,11 +770,7 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(t.P) {
 			verdict = "not made"
 		}
-		stat := sig(t.Statistic, 4)
-		if i == 2 {
-			stat = fixed(t.Statistic, 3) // Student's t; a least-squares fit's is zero to its tolerance
-		}
-		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, stat, sig(t.P, 3), verdict)
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
 	}
 	if j := f.Johnson; j.OK && j.Undetermined {
 		p("Johnson's three-point check of the first offset: %s; fitted B = %.4f %s\n", j.Note, f.Controls[0].B, L)
