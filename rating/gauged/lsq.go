@@ -497,8 +497,9 @@ func (p *lsqProblem) runaway(x []float64) int {
 
 // runawayError is FitControls's error for control j (from 0) of rating r
 // whose exponent ran past MaxFitExponent: it names the control, its
-// stages and gaugings, the exponent and offset the search reached and
-// the discharge it takes over from, and wraps ErrRunawayExponent.
+// stages and gaugings, the exponent and offset the search reached, how
+// far the offset lies below the control's lowest gauging, and the
+// discharge it takes over from, and wraps ErrRunawayExponent.
 func (p *lsqProblem) runawayError(j int, x []float64) error {
 	r, _ := p.m.rating(p.m.full(x))
 	c := r.Controls[j]
@@ -525,10 +526,17 @@ func (p *lsqProblem) runawayError(j int, x []float64) error {
 		what = sayf("control %d (from %s %s%s)", j+1, gh(c.From), L, held)
 		rises = sayf("from the %s %s that control %d gives at %s %s, its gaugings rise", rating.PlainFigures(r.upTo(j-1, c.From), 4), Q, j, gh(c.From), L)
 	}
-	return errorf("%w: %s: its least-squares exponent is %s, above %s, more than any control's, with its offset at %s %s, %s %s below where it starts%s; "+
+	below := ""
+	switch {
+	case len(hs) > 0:
+		below = sayf(", %s %s below its lowest gauging", rating.PlainFigures(hs[0]-c.B, 3), L)
+	case j > 0:
+		below = sayf(", %s %s below where it starts", rating.PlainFigures(c.From-c.B, 3), L)
+	}
+	return errorf("%w: %s: its least-squares exponent is %s, above %s, more than any control's, with its offset at %s %s%s%s; "+
 		"%s nearly as an exponential in stage, not as a control's power law (h − B)^C: move the breakpoint, fit fewer controls, or fit by --method bayes, whose prior holds the exponent",
 		ErrRunawayExponent, what, rating.PlainFigures(c.C, 3), rating.PlainFigures(MaxFitExponent, 3), rating.PlainFigures(c.B, 4), L,
-		rating.PlainFigures(c.From-c.B, 3), L, endless, rises)
+		below, endless, rises)
 }
 
 // runawayLogA is the ln A below which a control's coefficient is taken to
