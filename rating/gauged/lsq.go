@@ -986,21 +986,9 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 		top = f.Rating.Controls[1].From
 	}
 	f.Johnson = johnsonFromData(d, top)
-	if b := f.Rating.Controls[0].B; f.Johnson.OK {
-		depth := math.Min(top, d.hi) - b
-		j := &f.Johnson
-		if u := CoverageFactor95 * j.ZeroFlowSE; !(u <= JohnsonCheckFraction*depth) {
-			j.Undetermined = true
-			j.Note = sayf("not determined: e = %s ± %s %s (95 %%) from gauge heights %s to %s %s, over which the curve is nearly straight "+
-				"(G₁ + G₃ − 2·G₂ = %s %s): the range is too short for the method, its uncertainty more than the %s %s "+
-				"(%.0f %% of the first control's gauged depth) by which the check would tell the offset wrong",
-				rating.PlainFigures(j.ZeroFlow, 3), rating.PlainFigures(u, 2), f.Units.Length(), gh(j.G1), gh(j.G3), f.Units.Length(),
-				rating.PlainFigures(j.G1+j.G3-2*j.G2, 2), f.Units.Length(), rating.PlainFigures(JohnsonCheckFraction*depth, 2), f.Units.Length(),
-				100*JohnsonCheckFraction)
-		} else if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
-			f.Warnings = append(f.Warnings, sayf(
-				"Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
-				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
+	if f.Johnson.OK {
+		if w := f.Johnson.judge(f.Rating.Controls[0].B, math.Min(top, d.hi)-f.Rating.Controls[0].B, f.Units); w != "" {
+			f.Warnings = append(f.Warnings, w)
 		}
 	}
 	var fitted []Gauging

@@ -236,6 +236,8 @@ type jsonTests struct {
 }
 
 type jsonJohnson struct {
+	// OK: the estimate was made and is determined, so it checks the
+	// offset (as Determined; false when not made or not determined).
 	OK            bool   `json:"ok"`
 	ZeroFlowStage Float  `json:"zero_flow_stage"`
 	Q1            Float  `json:"q1"`
@@ -429,7 +431,7 @@ func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 	test := func(t gauged.RelationTest) jsonTest { return jsonTest{t.N, Float(t.Statistic), Float(t.P), t.Failed} }
 	out.Tests = &jsonTests{Float(gauged.RelationTestLevel), test(f.Tests.Sign), test(f.Tests.Runs), test(f.Tests.Mean)}
 	j := f.Johnson
-	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
+	out.Johnson = &jsonJohnson{j.OK && !j.Undetermined, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
 		Float(j.ZeroFlowSE), j.OK && !j.Undetermined}
 	if p := f.Posterior; p != nil {
 		jp := &jsonPosterior{Parameters: []jsonParam{}, RHatMax: Float(p.RHatMax), RHatParameter: p.RHatParam, ESSMin: Float(p.ESSMin),
