@@ -3,6 +3,7 @@ package reach
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -186,5 +187,20 @@ func TestBackwaterOrderWarningsBedTolerance(t *testing.T) {
 	}
 	for _, w := range orderWarnings(secs, rating.SI) {
 		t.Errorf("warning %q for a bed rising 0.02 m", w)
+	}
+}
+
+// A boundary's own warnings (a rating table read linearly, say) are
+// reported among the computation's.
+func TestBackwaterReportsBoundaryWarnings(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
+	const w = "r.csv: the boundary rating has no row without flow, so it is read linearly in stage between rows"
+	b := Boundary{Kind: StageRating, Rating: []StageDischarge{{Stage: 99.9, Discharge: 5}, {Stage: 102, Discharge: 80}}, Warnings: []string{w}}
+	res, err := ComputeBackwater(secs, []float64{20}, b, BackwaterOptions{Units: rating.SI})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(res.Warnings, w) {
+		t.Errorf("warnings %q lack the boundary's", res.Warnings)
 	}
 }

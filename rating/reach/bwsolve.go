@@ -79,6 +79,10 @@ func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) 
 		}
 		r.walls[i] = math.NaN()
 	}
+	r.warnings = append(r.warnings, b.Warnings...)
+	if opt.Second != nil {
+		r.warnings = append(r.warnings, opt.Second.Warnings...)
+	}
 	r.warnings = append(r.warnings, r.bankWarnings()...)
 	r.warnings = append(r.warnings, orderWarnings(secs, opt.Units)...)
 	return r, nil
