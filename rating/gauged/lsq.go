@@ -335,8 +335,9 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	sort.Ints(m.free)
 	n, np := d.n(), len(m.free)
 	if n < np+1 || n < k*MinPerSegment {
-		return nil, nil, nil, errorf("%w: %d gaugings used for %d parameters and %d controls of at least %d gaugings each",
-			ErrFewGaugings, n, np, k, MinPerSegment)
+		return nil, nil, nil, errorf("%w: %s used for %s and %s of at least %s each",
+			ErrFewGaugings, rating.Counted(n, "gauging", "gaugings"), rating.Counted(np, "parameter", "parameters"), rating.Counted(k, "control", "controls"),
+			rating.Counted(MinPerSegment, "gauging", "gaugings"))
 	}
 	if !(d.hi > d.lo) {
 		return nil, nil, nil, errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
@@ -372,8 +373,8 @@ type BelowZeroError struct {
 
 func (e *BelowZeroError) Error() string {
 	L := e.Units.Length()
-	return sayf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
-		"a rating has no discharge there (%v)", e.Count, e.Used, gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
+	return sayf("%d of the %s used %s at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
+		"a rating has no discharge there (%v)", e.Count, rating.Counted(e.Used, "gauging", "gaugings"), rating.Agree(e.Count, "lies", "lie"), gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
 }
 
 func (e *BelowZeroError) Unwrap() error { return ErrBelowZero }
@@ -714,14 +715,14 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 				for _, y := range ys {
 					qlo, qhi = math.Min(qlo, math.Exp(y)), math.Max(qhi, math.Exp(y))
 				}
-				return nil, errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %d gaugings (%g to %g, discharge %.4g to %.4g) do not rise from it: try another breakpoint or fewer controls",
-					ErrNoStart, j+1, br[j-1], q0, j, len(hs), hs[0], hs[len(hs)-1], qlo, qhi)
+				return nil, errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %s (%g to %g, discharge %.4g to %.4g) %s not rise from it: try another breakpoint or fewer controls",
+					ErrNoStart, j+1, br[j-1], q0, j, rating.Counted(len(hs), "gauging", "gaugings"), hs[0], hs[len(hs)-1], qlo, qhi, rating.Agree(len(hs), "does", "do"))
 			}
 		}
 		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
 		if _, ok := p.m.ratingUpTo(full, j); !ok {
-			return nil, errorf("%w: control %d, from gauge height %g, makes no rating joined to control %d there (coefficient %.3g, exponent %.3g) through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
-				ErrNoStart, j+1, br[j-1], j, math.Exp(lnA), c, len(hs), hs[0], hs[len(hs)-1])
+			return nil, errorf("%w: control %d, from gauge height %g, makes no rating joined to control %d there (coefficient %.3g, exponent %.3g) through its %s (%g to %g): try another breakpoint or fewer controls",
+				ErrNoStart, j+1, br[j-1], j, math.Exp(lnA), c, rating.Counted(len(hs), "gauging", "gaugings"), hs[0], hs[len(hs)-1])
 		}
 	}
 	return full, nil
