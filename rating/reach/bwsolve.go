@@ -129,17 +129,9 @@ func (r *bwRun) bankWarnings() []string {
 	return []string{fmt.Sprintf("%s %s %s no bank marks, so all %s conveyance is the channel's: the overbank flow lengths of %s %s "+
 		"cannot be applied at %s, and the channel flow length is used for %s of the weighted length; "+
 		"mark %s banks for the overbank lengths to count",
-		rating.Agree(n, "section", "sections"), joinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
-		rating.Agree(len(parts), "the subreach", "the subreaches"), joinAnd(parts), rating.Agree(n, "it", "them"),
+		rating.Agree(n, "section", "sections"), rating.JoinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
+		rating.Agree(len(parts), "the subreach", "the subreaches"), rating.JoinAnd(parts), rating.Agree(n, "it", "them"),
 		rating.Agree(n, "its half", "their halves"), rating.Agree(n, "its", "their"))}
-}
-
-// joinAnd joins words as "a", "a and b", "a, b and c".
-func joinAnd(w []string) string {
-	if len(w) < 2 {
-		return strings.Join(w, "")
-	}
-	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
 }
 
 // hasOverbank reports whether g has a subsection in an overbank region.
@@ -940,5 +932,5 @@ func dischargeRuns(rows []RatingRead, u rating.Units) string {
 	if len(runs) > maxRuns {
 		return fmt.Sprintf("%s %s and %d more runs", strings.Join(runs[:maxRuns-1], ", "), u.Discharge(), len(runs)-(maxRuns-1))
 	}
-	return joinAnd(runs) + " " + u.Discharge()
+	return rating.JoinAnd(runs) + " " + u.Discharge()
 }
