@@ -377,6 +377,14 @@ type BackwaterFigures struct {
 	Size Size
 }
 
+// backwaterSubtitle is the profile figure's subtitle: how many
+// discharges were computed from which boundary, and where the rating is
+// read.
+func backwaterSubtitle(r reach.Backwater) string {
+	return fmt.Sprintf("%s from the downstream boundary (%s); rating read at %s",
+		rating.Counted(len(r.Profiles), "discharge", "discharges"), r.Boundary.Words(r.Units), r.Rating.Section)
+}
+
 // DrawBackwater draws the figures of a step-backwater report: the reach
 // profile with every computed profile, the stages at critical depth, the
 // high-water marks and a verified profile (Base-profiles.png), and the
@@ -393,8 +401,7 @@ func DrawBackwater(in BackwaterFigures) ([]rating.Figure, []string, error) {
 		name = "" // the site names the reach; keep the title on one line
 	}
 	bp := BackwaterPlot{Site: in.Site, Reach: name, Units: r.Units, At: r.Rating.Section, Size: in.Size,
-		Subtitle: fmt.Sprintf("%d discharges from the downstream boundary (%s); rating read at %s",
-			len(r.Profiles), r.Boundary.Words(r.Units), r.Rating.Section)}
+		Subtitle: backwaterSubtitle(r)}
 	for _, s := range rep.Sections {
 		rs := ReachSection{ID: s.ID, Distance: s.Distance, Bed: math.NaN()}
 		if s.Geometry != nil {

@@ -105,11 +105,9 @@ func FlagNote(marks []FlagMark, u rating.Units) string {
 			}
 			at = append(at, s)
 		}
-		stages := strings.Join(at, ", ")
+		stages := rating.JoinAnd(at)
 		if n := len(at); n > maxRunsNamed {
 			stages = fmt.Sprintf("%d runs from %s to %s", n, fmtStage(m.Runs[0].Low), fmtStage(m.Runs[n-1].High))
-		} else if n > 1 {
-			stages = strings.Join(at[:n-1], ", ") + " and " + at[n-1]
 		}
 		_, words := flagGlyph(m.Flag)
 		parts = append(parts, fmt.Sprintf("%d %s at %s %s (%s: %s)", len(m.Points), m.Flag, stages, u.Length(),

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -94,6 +95,24 @@ func TestOverlayLabelUnits(t *testing.T) {
 	} {
 		if got := overlayLabel(1, tc.s, names(tc.u)); got != tc.want {
 			t.Errorf("got %q, want %q", got, tc.want)
+		}
+	}
+}
+
+// The profile figure's subtitle counts its discharges in agreement: "1
+// discharge", not "1 discharges".
+func TestBackwaterSubtitleCounted(t *testing.T) {
+	for _, tc := range []struct {
+		n    int
+		want string
+	}{
+		{1, "1 discharge from the downstream boundary (critical depth"},
+		{3, "3 discharges from the downstream boundary (critical depth"},
+	} {
+		r := reach.Backwater{Units: rating.SI, Boundary: reach.Boundary{Kind: reach.CriticalDepth}, Profiles: make([]reach.SurfaceProfile, tc.n)}
+		r.Rating.Section = "XS-1"
+		if got := backwaterSubtitle(r); !strings.HasPrefix(got, tc.want) || !strings.HasSuffix(got, "; rating read at XS-1") {
+			t.Errorf("%d profiles: subtitle %q, want it to start %q", tc.n, got, tc.want)
 		}
 	}
 }

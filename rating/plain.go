@@ -3,12 +3,16 @@ package rating
 import (
 	"fmt"
 	"math"
+	"strings"
+	"unicode/utf8"
 )
 
 // plainFloat is a float64 that a message writes in plain decimal, never
 // with an exponent: under %g (and %v) to the precision's significant
 // figures by PlainFigures, the shortest that reads back without a
-// precision; NaN and ±Inf as fmt writes them. Other verbs are fmt's own.
+// precision, one figure for precision 0 as fmt; width in characters, the
+// flags -, + and 0 as fmt reads them; NaN and ±Inf as fmt writes them.
+// Other verbs are fmt's own.
 type plainFloat float64
 
 // Format implements fmt.Formatter.
@@ -19,19 +23,31 @@ func (p plainFloat) Format(s fmt.State, verb rune) {
 		return
 	}
 	n, ok := s.Precision()
-	if !ok || n <= 0 {
+	switch {
+	case !ok:
 		n = 17 // the shortest decimal that reads back, as %g
+	case n == 0:
+		n = 1 // as fmt: %.0g is one significant figure
 	}
 	out := PlainFigures(v, n)
 	if s.Flag('+') && v >= 0 {
 		out = "+" + out
 	}
-	if w, ok := s.Width(); ok && len(out) < w {
-		pad := fmt.Sprintf("%*s", w-len(out), "")
-		if s.Flag('-') {
-			out += pad
-		} else {
-			out = pad + out
+	// The width counts characters, not bytes ("×" is two bytes); the 0
+	// flag pads with zeros after the sign, as fmt does, unless - is given.
+	if w, ok := s.Width(); ok && utf8.RuneCountInString(out) < w {
+		k := w - utf8.RuneCountInString(out)
+		switch {
+		case s.Flag('-'):
+			out += strings.Repeat(" ", k)
+		case s.Flag('0'):
+			sign := ""
+			if out[0] == '+' || out[0] == '-' {
+				sign, out = out[:1], out[1:]
+			}
+			out = sign + strings.Repeat("0", k) + out
+		default:
+			out = strings.Repeat(" ", k) + out
 		}
 	}
 	fmt.Fprint(s, out)

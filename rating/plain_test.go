@@ -32,6 +32,17 @@ func TestSayf(t *testing.T) {
 		{"%g", []any{math.Inf(1)}, "+Inf"},
 		{"%v", []any{[]float64{2.1, 3e-7}}, "[2.1 0.0000003]"},
 		{"%6.2g|%-6.2g|", []any{1.5, 1.5}, "   1.5|1.5   |"},
+		// Width in characters: "1.5×10^-11" is 10 of them (11 bytes).
+		{"%12g|", []any{1.5e-11}, "  1.5×10^-11|"},
+		{"%-12g|", []any{1.5e-11}, "1.5×10^-11  |"},
+		// Precision 0 is one significant figure, as fmt's %.0g (3).
+		{"%.0g", []any{2.71828}, "3"},
+		// The 0 flag pads with zeros after the sign, as fmt's %08.3g
+		// ("00002.72", "-0002.72", "+0002.72").
+		{"%08.3g", []any{2.71828}, "00002.72"},
+		{"%08.3g", []any{-2.71828}, "-0002.72"},
+		{"%+08.3g", []any{2.71828}, "+0002.72"},
+		{"%-08.3g|", []any{2.71828}, "2.72    |"},
 		{"%.2f and %d", []any{1e-9, 3}, "0.00 and 3"},
 	} {
 		if got := Sayf(tc.format, tc.args...); got != tc.want {

@@ -49,6 +49,9 @@ type SolveReport struct {
 	Units     Units
 	Slope     float64
 	Composite Composite
+	// NUnset reports a section given no Manning's n, which the answer
+	// does not use (a flow area, or critical flow in one region).
+	NUnset bool
 	// Exactly one of Discharge, Area and Stage is set, as asked.
 	Discharge *Solution
 	Area      *AreaAnswer

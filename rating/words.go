@@ -1,6 +1,9 @@
 package rating
 
-import "strconv"
+import (
+	"strconv"
+	"strings"
+)
 
 // Counted writes a count with its noun agreeing: "1 subsection",
 // "3 subsections", "0 subsections". It is the one place every report and
@@ -16,4 +19,13 @@ func Agree(n int, one, many string) string {
 		return one
 	}
 	return many
+}
+
+// JoinAnd joins words as a list in prose: "a", "a and b", "a, b and c"
+// ("" for none).
+func JoinAnd(w []string) string {
+	if len(w) < 2 {
+		return strings.Join(w, "")
+	}
+	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
 }

@@ -13,3 +13,15 @@ func TestCounted(t *testing.T) {
 		}
 	}
 }
+
+// TestJoinAnd: a list in prose (English usage, no serial comma).
+func TestJoinAnd(t *testing.T) {
+	for _, tc := range []struct {
+		w    []string
+		want string
+	}{{nil, ""}, {[]string{"a"}, "a"}, {[]string{"a", "b"}, "a and b"}, {[]string{"a", "b", "c"}, "a, b and c"}} {
+		if got := JoinAnd(tc.w); got != tc.want {
+			t.Errorf("JoinAnd(%q) = %q, want %q", tc.w, got, tc.want)
+		}
+	}
+}

@@ -551,7 +551,7 @@ func (r *sectionReader) offsetWarnings(recs []Record, feet bool) {
 		}
 	}
 	if far > maxOffsetWarnings {
-		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: %d more points lie off the section line by more than %g%s", where(t, t.HeaderRow), far-maxOffsetWarnings, pr.Tolerance, unit))
+		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: %s %s off the section line by more than %g%s", where(t, t.HeaderRow), rating.Counted(far-maxOffsetWarnings, "more point", "more points"), rating.Agree(far-maxOffsetWarnings, "lies", "lie"), pr.Tolerance, unit))
 	}
 	if pr.LineTurned {
 		r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: the line given starts on the right bank (left bank from %s): stations count from its second point, the left end; give the line from its left end",

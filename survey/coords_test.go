@@ -448,3 +448,28 @@ func TestPinLikeWarned(t *testing.T) {
 		}
 	}
 }
+
+// Eleven points far off the line: ten are warned of one by one, and the
+// one more is counted as one ("1 more point lies", not "1 more points
+// lie"). An invented V of 13 points, 3 m apart.
+func TestCoordinateSurveyOffsetWarningsCounted(t *testing.T) {
+	var st, off, z []float64
+	var n, marks []string
+	for i := 0; i <= 12; i++ {
+		st, z = append(st, 3*float64(i)), append(z, 100+math.Abs(float64(i)-6)/2)
+		d := 1.0
+		if i == 0 || i == 12 {
+			d = 0
+		}
+		off, n, marks = append(off, d), append(n, ""), append(marks, "")
+	}
+	n[0], marks[0], marks[12] = "0.04", "left pin", "right pin"
+	sv, err := ParseSection(strings.NewReader(skewedLine(0, 0, 10, st, off, z, n, marks)), "xs.csv", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := strings.Join(sv.Warnings, "\n")
+	if !strings.Contains(w, "xs.csv:1: 1 more point lies off the section line by more than 0.5 m") {
+		t.Errorf("warnings:\n%s", w)
+	}
+}

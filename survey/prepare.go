@@ -56,8 +56,8 @@ type SectionRequest struct {
 	// Coordinates say how a coordinate survey becomes stations (ignored
 	// for a survey by station).
 	Coordinates CoordinateOptions
-	// Roughless says how the request's answer uses the conveyance of a
-	// built shape, which alone needs Manning's n: a shape given no n is
+	// Roughless says how the request's answer uses the conveyance of the
+	// section: a shape or a survey given no n (no n column, no N) is
 	// refused unless Roughless allows it (see RoughUse).
 	Roughless RoughUse
 	// Book, when set, is the workbook Path names, already open: the
@@ -74,9 +74,10 @@ const (
 	// a uniform-flow discharge): n is needed.
 	RoughNeeded RoughUse = iota
 	// RoughAlphaOnly: only the velocity-distribution coefficient alpha
-	// is used (critical flow without a slope). In a shape of one region
-	// alpha is 1 whatever n is, so no n is needed; a compound shape
-	// weighs its floodplains by conveyance, so it needs n.
+	// is used (critical flow without a slope). In a shape of one region,
+	// or a survey without banks, alpha is 1 whatever n is, so no n is
+	// needed; a compound shape or a survey with banks weighs its
+	// overbanks by conveyance, so it needs n.
 	RoughAlphaOnly
 	// RoughUnused: nothing depends on n (a stage for a flow area).
 	RoughUnused
@@ -95,6 +96,9 @@ type Prepared struct {
 	Shape subdivide.Shape
 	// Built reports a built shape rather than a survey.
 	Built bool
+	// NUnset reports a section given no Manning's n, built with unusedN
+	// because the request's answer does not depend on n (see RoughUse).
+	NUnset bool
 	// Units is the unit system of the section (see SectionRequest.Units).
 	Units rating.Units
 	// Site is the survey's site metadata.
@@ -167,7 +171,11 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 		p.Warnings = append(p.Warnings, highN(req.N)...)
 	}
 	if sec.N == nil && req.N == nil {
-		return nil, fmt.Errorf("%s: %w", p.Ground.Source, ErrNoN)
+		n, err := surveyRoughness(sec, req)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", p.Ground.Source, err)
+		}
+		sec.NByRegion, p.NUnset = n, true
 	}
 	g, err := subdivide.Compile(sec)
 	if req.Banks != nil && errors.Is(err, subdivide.ErrBanks) {
@@ -251,11 +259,12 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 	if err != nil {
 		return nil, err
 	}
+	unset := req.N == nil
 	g, err := sh.Build(n)
 	if err != nil {
 		return nil, requestf("%w", err)
 	}
-	p := &Prepared{Shape: sh, Built: true, Units: req.Units, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
+	p := &Prepared{Shape: sh, Built: true, NUnset: unset, Units: req.Units, Ground: rating.Ground{Source: sh.String()}, Warnings: highN(req.N)}
 	if !sh.Closed() {
 		if sec, err := sh.Section(n); err == nil {
 			p.Ground.Section = sec
@@ -273,6 +282,22 @@ func prepareShape(req SectionRequest) (*Prepared, error) {
 // depend on n (RoughUnused, or RoughAlphaOnly in a shape of one region):
 // any positive value gives the same area, width, alpha and critical flow.
 const unusedN = 1
+
+// surveyRoughness is the n by region of a survey with no n column and
+// no n given, by the rule of shapeRoughness: unusedN where the request's
+// answer does not depend on n (RoughUnused; RoughAlphaOnly in a survey
+// without banks, one region whose alpha is 1 whatever its n); else
+// ErrNoN, saying why n is needed (bank marks split the section into
+// channel and overbanks, which alpha weighs by their conveyance).
+func surveyRoughness(sec subdivide.Section, req SectionRequest) (subdivide.PerRegion, error) {
+	switch {
+	case req.Roughless == RoughUnused, req.Roughless == RoughAlphaOnly && !sec.HasBanks:
+		return subdivide.Uniform(unusedN), nil
+	case req.Roughless == RoughAlphaOnly:
+		return subdivide.PerRegion{}, fmt.Errorf("%w, even for critical flow: its banks split it into channel and overbanks, which alpha weighs by their conveyance", ErrNoN)
+	}
+	return subdivide.PerRegion{}, ErrNoN
+}
 
 // shapeRoughness is the n by region of a built shape: the one given (see
 // ShapeN), else unusedN where the request's answer does not depend on n;

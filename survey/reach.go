@@ -850,8 +850,9 @@ type BoundaryRating struct {
 // table (gauged.TableRating): log-linearly in (h − e) between rows, where
 // the table begins at a row without flow whose stage is e, the gauge
 // height of zero flow (as the table rate writes begins, at the section's
-// lowest point; DryFoot), and linearly where it has no such row. A
-// discharge outside the table's rows is an error wrapping
+// lowest point; DryFoot), and linearly where it has no such row, which
+// the boundary's Warnings then say, naming the dry first row that gives
+// the log-linear reading. A discharge outside the table's rows is an error wrapping
 // reach.ErrBoundaryRange; the table is never extrapolated. Points stay in
 // the boundary, for its description and reports.
 //
@@ -880,7 +881,13 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 		}
 		return tr.Stage(q)
 	}
-	return reach.Boundary{Kind: reach.StageRating, Rating: slices.Clone(b.Points), StageOf: stage}, nil
+	out := reach.Boundary{Kind: reach.StageRating, Rating: slices.Clone(b.Points), StageOf: stage}
+	if !rt.HasZeroFlow {
+		out.Warnings = []string{fmt.Sprintf("%s: the boundary rating has no row without flow, so it is read linearly in stage between rows; "+
+			"begin it with a row of discharge 0 at its gauge height of zero flow (as the table rate writes begins, at the section's lowest point) "+
+			"to read it log-linearly in (h − e)", Position(b.File, b.Sheet))}
+	}
+	return out, nil
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or

@@ -491,10 +491,11 @@ func TestBoundaryRatingStages(t *testing.T) {
 	for _, tc := range []struct {
 		name, text string
 		q, want    float64
+		linear     bool // warned of as read linearly
 	}{
-		{"dry foot, log-linear", "stage,discharge\n100,0\n101,10\n103,80\n", 40, logStage(100, 101, 10, 103, 80, 40)},
-		{"dry foot, a row", "stage,discharge\n100,0\n101,10\n103,80\n", 80, 103},
-		{"no dry row, linear", "stage,discharge\n101,10\n103,80\n", 40, 101 + 2*30.0/70},
+		{"dry foot, log-linear", "stage,discharge\n100,0\n101,10\n103,80\n", 40, logStage(100, 101, 10, 103, 80, 40), false},
+		{"dry foot, a row", "stage,discharge\n100,0\n101,10\n103,80\n", 80, 103, false},
+		{"no dry row, linear", "stage,discharge\n101,10\n103,80\n", 40, 101 + 2*30.0/70, true},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			dir := reachFiles(t, map[string]string{"r.csv": tc.text})
@@ -508,6 +509,11 @@ func TestBoundaryRatingStages(t *testing.T) {
 			}
 			if b.Kind != reach.StageRating || len(b.Rating) != len(br.Points) || b.StageOf == nil {
 				t.Fatalf("boundary %+v", b)
+			}
+			warned := len(b.Warnings) == 1 && strings.Contains(b.Warnings[0], "r.csv: the boundary rating has no row without flow, so it is read linearly in stage between rows; "+
+				"begin it with a row of discharge 0 at its gauge height of zero flow")
+			if warned != tc.linear || !tc.linear && len(b.Warnings) > 0 {
+				t.Errorf("warnings %q, want a warning of a linear reading: %v", b.Warnings, tc.linear)
 			}
 			h, err := b.StageOf(tc.q)
 			if err != nil || math.Abs(h-tc.want) > tol {

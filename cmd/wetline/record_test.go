@@ -855,3 +855,28 @@ func TestRecordMissingReadings(t *testing.T) {
 		t.Errorf("daily values with the missing reading:\n%s\nwithout it:\n%s", got, want)
 	}
 }
+
+// TestRecordOneGaugingCounted: a record checked against one gauging says
+// "the 1 gauging", where it read "0 of 1 gauging lie". The gauging is
+// invented (0.84 m, 4.10 m3/s, as in TestRecordExcludedGaugings).
+func TestRecordOneGaugingCounted(t *testing.T) {
+	t.Parallel()
+	gs := filepath.Join(t.TempDir(), "gaugings.csv")
+	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality\n2024-05-01T09:00,0.84,4.10,good\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	args := recordArgs()
+	for i, a := range args {
+		if a == recGaugings {
+			args[i] = gs
+		}
+	}
+	out, errs, code := runCLI(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "  the 1 gauging does not lie outside its quality band from the record\n") ||
+		!strings.Contains(out, "  the 1 gauge height does not differ from the recorded stage by more than ") || strings.Contains(out, "of 1 gauging") {
+		t.Errorf("record report:\n%s", out)
+	}
+}

@@ -103,7 +103,7 @@ func runSolve(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return failed(p, err)
 	}
-	rep.Section = p.Source()
+	rep.Section, rep.NUnset = p.Source(), p.NUnset
 	rep.Provenance = rating.Provenance{Program: program(), Inputs: p.Inputs, Site: siteWith(p.Site, f.site), Notes: p.Notes}
 	rep.Warnings = slices.Concat(p.Warnings, rep.Warnings)
 	write := results.WriteSolveText

@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"math"
+	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -175,6 +176,10 @@ func TestShapeSurveyUnits(t *testing.T) {
 func TestSolveWithoutN(t *testing.T) {
 	t.Parallel()
 	trap := "trapezoid:bottom=3,side=2"
+	noN := filepath.Join(t.TempDir(), "non.csv")
+	if err := os.WriteFile(noN, []byte("station,elevation\n0,2\n4,0\n7,0\n11,2\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	for _, tc := range []struct {
 		name string
 		args []string
@@ -188,6 +193,15 @@ func TestSolveWithoutN(t *testing.T) {
 		{"normal stage", []string{"--shape", trap, "--discharge", "10", "--slope", "0.001"}, 2, "needs Manning's n"},
 		{"compound critical", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--stage", "2.5"}, 2, "alpha weighs its floodplains"},
 		{"compound area", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--area", "8"}, 0, "held at stage 2.0000 m"},
+		// The same trapezoid surveyed, with no n column: a survey without
+		// banks is one region, as the shape (the trial's non.csv was
+		// refused for --area and --stage).
+		{"survey area", []string{noN, "--area", "10"}, 0, "held at stage 1.6085 m"},
+		{"survey critical at a stage", []string{noN, "--stage", "1"}, 0, "critical discharge is 13.23 m3/s"},
+		{"survey critical stage", []string{noN, "--discharge", "13.233"}, 0, "roughness none given (Manning's n plays no part"},
+		{"survey uniform flow", []string{noN, "--stage", "1", "--slope", "0.001"}, 1, "the survey has no n column: give Manning's n"},
+		{"survey with banks, critical", []string{noN, "--banks", "4,7", "--stage", "1"}, 1, "even for critical flow: its banks split it"},
+		{"survey with banks, area", []string{noN, "--banks", "4,7", "--area", "10"}, 0, "held at stage 1.6085 m"},
 	} {
 		out, errs, code := runCLI(t, append([]string{"solve"}, tc.args...)...)
 		if code != tc.code || !strings.Contains(out+errs, tc.want) {

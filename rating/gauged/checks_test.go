@@ -78,14 +78,6 @@ func TestRelationTests(t *testing.T) {
 		{"mean, two departures", []float64{1, 3}, gauged.MeanDepartureTest, 2, 1 - 2/math.Pi*math.Atan(2)},
 		{"mean, three departures", []float64{1, 2, 6}, gauged.MeanDepartureTest, 3 * math.Sqrt(3) / math.Sqrt(7),
 			1 - (3*math.Sqrt(3)/math.Sqrt(7))/math.Sqrt(2+27.0/7)},
-		// Weights 1, 1, 2 scaled to mean 1: 0.75, 0.75, 1.5; weighted mean
-		// 3.75, Σw(d − d̄)² = 15.5625, s² = 15.5625/2, t = 3.75/√(s²/3).
-		{"weighted mean, three departures", []float64{1, 2, 6}, func(d []float64) gauged.RelationTest {
-			return gauged.WeightedMeanDepartureTest(d, []float64{1, 1, 2})
-		}, 3.75 / math.Sqrt(15.5625/2/3), 1 - (3.75/math.Sqrt(15.5625/6))/math.Sqrt(2+3.75*3.75/(15.5625/6))},
-		{"weighted mean, equal weights", []float64{1, 2, 6}, func(d []float64) gauged.RelationTest {
-			return gauged.WeightedMeanDepartureTest(d, []float64{4, 4, 4})
-		}, 3 * math.Sqrt(3) / math.Sqrt(7), 1 - (3*math.Sqrt(3)/math.Sqrt(7))/math.Sqrt(2+27.0/7)},
 	} {
 		r := tc.test(tc.dep)
 		if math.Abs(r.Statistic-tc.stat) > tol || math.Abs(r.P-tc.p) > tol {
@@ -185,27 +177,35 @@ func TestSelectionUnmatched(t *testing.T) {
 }
 
 // Reference: testdata/reference/gaugings-01594440.csv (USGS 01594440).
-// The mean departure test of a weighted least-squares fit is made on the
-// departures it weighted, as fitted: one control fitted to the 142
-// measurements has a weighted mean departure of zero to the search's
-// tolerance, so the test passes (p ≈ 1), where the t of the unweighted
-// departures is −2.11 (p = 0.037) and failed a curve without bias in its
-// own weighting (ISO 1100-2's test is for gaugings of equal weight).
-func TestMeanDepartureTestIsWeightedAsFitted(t *testing.T) {
+// The mean departure test of a weighted least-squares fit is made on its
+// unweighted departures in ln Q, as ISO 1100-2 gives it for gaugings: on
+// one control fitted to the 142 measurements t = −2.11 (p = 0.037, the
+// trial's figure), a failure. The weighted mean of the same departures is
+// zero by the normal equation of ln A, so a weighted test would read
+// t = 0 and p = 1 on every least-squares fit; the test must not be that.
+func TestMeanDepartureTestIsUnweighted(t *testing.T) {
 	gs := patuxentGaugings(t)
 	f, err := gauged.FitControls(gs, gauged.ControlOptions{Units: rating.US})
 	if err != nil {
 		t.Fatal(err)
 	}
-	m := f.Tests.Mean
-	if !(math.Abs(m.Statistic) < 1e-3) || m.Failed || m.N != 142 {
-		t.Errorf("mean departure test %+v, want t ≈ 0 and a pass", m)
-	}
 	var dep []float64
+	var sw, swr float64
 	for _, r := range f.Residuals {
+		if r.Excluded {
+			continue
+		}
 		dep = append(dep, r.LogResidual)
+		sw, swr = sw+r.Weight, swr+r.Weight*r.LogResidual
 	}
-	if u := gauged.MeanDepartureTest(dep); math.Abs(u.Statistic+2.11) > 0.01 || !u.Failed {
-		t.Errorf("unweighted t %.3f, want −2.11 and a failure (the trial's figure)", u.Statistic)
+	if !(math.Abs(swr/sw) < 1e-4) {
+		t.Errorf("weighted mean departure %.3g, want 0 (normal equation of ln A)", swr/sw)
+	}
+	m := f.Tests.Mean
+	if math.Abs(m.Statistic+2.11) > 0.01 || !m.Failed || m.N != 142 {
+		t.Errorf("mean departure test %+v, want t = −2.11 on 142 departures, failed", m)
+	}
+	if u := gauged.MeanDepartureTest(dep); math.Abs(u.Statistic-m.Statistic) > 1e-9 {
+		t.Errorf("reported t %.4f, the unweighted departures' %.4f", m.Statistic, u.Statistic)
 	}
 }

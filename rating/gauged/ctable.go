@@ -241,8 +241,9 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	}
 	if len(uncovered) > 0 {
 		lo, hi := t.hyd.tab.Range()
-		t.Warnings = append(t.Warnings, sayf("%d rows from gauge height %.3f to %.3f lie outside the hydraulic rating table (%.3f to %.3f): they have no hydraulic discharge",
-			len(uncovered), uncovered[0], uncovered[len(uncovered)-1], lo, hi))
+		n := len(uncovered)
+		t.Warnings = append(t.Warnings, sayf("%s from gauge height %.3f to %.3f %s outside the hydraulic rating table (%.3f to %.3f): %s no hydraulic discharge",
+			rating.Counted(n, "row", "rows"), uncovered[0], uncovered[n-1], rating.Agree(n, "lies", "lie"), lo, hi, rating.Agree(n, "it has", "they have")))
 	}
 	return t, nil
 }

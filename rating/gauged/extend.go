@@ -155,7 +155,7 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	}
 	s := ConveyanceSlope{TrendP: math.NaN()}
 	if n < ConveyanceSlopeMin {
-		return s, errorf("%w: %d gaugings in the upper range, at least %d needed", ErrExtension, n, ConveyanceSlopeMin)
+		return s, errorf("%w: %s in the upper range, at least %d needed", ErrExtension, rating.Counted(n, "gauging", "gaugings"), ConveyanceSlopeMin)
 	}
 	x, y, w := make([]float64, n), make([]float64, n), make([]float64, n)
 	for i, h := range stages {

@@ -35,14 +35,11 @@ type RelationTests struct {
 }
 
 // RelationChecks runs SignTest, RunsTest and MeanDepartureTest on
-// departures ordered by stage (ln Q − ln Q_rating, say).
-func RelationChecks(dep []float64) RelationTests { return WeightedRelationChecks(dep, nil) }
-
-// WeightedRelationChecks runs SignTest, RunsTest and
-// WeightedMeanDepartureTest on departures ordered by stage with the
-// weights the curve was fitted with (nil: equal weights).
-func WeightedRelationChecks(dep, w []float64) RelationTests {
-	return RelationTests{Sign: SignTest(dep), Runs: RunsTest(dep), Mean: WeightedMeanDepartureTest(dep, w)}
+// departures ordered by stage (ln Q − ln Q_rating, say), each departure
+// of equal weight as ISO 1100-2 gives the tests for gaugings, whatever
+// weights the curve was fitted with.
+func RelationChecks(dep []float64) RelationTests {
+	return RelationTests{Sign: SignTest(dep), Runs: RunsTest(dep), Mean: MeanDepartureTest(dep)}
 }
 
 // nonzero returns the departures that are not zero (nor NaN).
@@ -136,52 +133,28 @@ func RunsTest(dep []float64) RelationTest {
 //
 //	t = d̄ / (s/√n),   two-sided p = 2·P(T > |t|),   T ~ t(n − 1),
 //
-// with s the sample standard deviation of the n departures: the test of
-// ISO 1100-2 for departures of equal weight, as its curves are fitted
-// (WeightedMeanDepartureTest with equal weights). Needs two departures
-// that are not all equal; otherwise Statistic and P are NaN.
-//
-// References:
-//
-//	ISO 1100-2:2010 (tests of a relation: test for bias of the mean
-//	departure; from memory).
-func MeanDepartureTest(dep []float64) RelationTest { return WeightedMeanDepartureTest(dep, nil) }
-
-// WeightedMeanDepartureTest tests for bias departures dᵢ of weights wᵢ
-// (1/σᵢ², any scale; nil for equal weights), as a curve fitted with those
-// weights is to be tested: the weighted mean and its Student's t,
-//
-//	d̄ = Σwᵢdᵢ / Σwᵢ,   s² = Σwᵢ(dᵢ − d̄)² / (n − 1) with the wᵢ scaled to mean 1,
-//	t = d̄ / (s/√n),   two-sided p = 2·P(T > |t|),   T ~ t(n − 1).
-//
-// d̄ is the estimate of a bias δ common to departures dᵢ ~ N(δ, s²/wᵢ),
-// and s/√n its standard error; with equal weights this is ISO 1100-2's
-// test of the mean departure. The unweighted mean of a weighted fit's
-// departures is not zero by design (the better gaugings pull the curve
-// harder), so the unweighted test would find a bias in a curve that has
-// none; the departures a least-squares fit minimises have a weighted mean
-// of zero wherever each control has its own coefficient, and the test
-// then measures the curve's bias against its gaugings as ISO 1100-2
-// intends: a curve drawn without the weights would fail it, a Bayesian
-// posterior mode pulled by its priors may. Departures or weights that
-// are NaN, and non-positive weights, are left out. Needs two departures
-// that are not all equal; otherwise Statistic and P are NaN.
+// with d̄ and s the mean and sample standard deviation of the n
+// departures, each of equal weight: ISO 1100-2 states the test on the
+// gaugings' departures from the curve, unweighted. It is made so on a
+// curve fitted by weighted least squares too; there the weighted mean of
+// the departures is zero by the normal equation of each control's ln A
+// (Σwᵢrᵢ = 0), so a weighted form of the test could never fail, while
+// the unweighted mean shows a curve pulled away from the bulk of the
+// gaugings by a few heavily weighted ones. Departures that are NaN are
+// left out. Needs two departures that are not all equal; otherwise
+// Statistic and P are NaN.
 //
 // References:
 //
 //	ISO 1100-2:2010. Hydrometry — Measurement of liquid flow in open
 //	channels — Part 2: Determination of the stage-discharge relationship
-//	(tests of a relation: test for bias of the mean departure, for
-//	gaugings of equal weight; from memory).
-func WeightedMeanDepartureTest(dep, w []float64) RelationTest {
-	var v, ws []float64
-	for i, d := range dep {
-		wi := 1.0
-		if w != nil {
-			wi = w[i]
-		}
-		if !math.IsNaN(d) && wi > 0 && !math.IsInf(wi, 0) {
-			v, ws = append(v, d), append(ws, wi)
+//	(tests of a relation: test for bias of the mean departure of the
+//	gaugings; from memory).
+func MeanDepartureTest(dep []float64) RelationTest {
+	var v []float64
+	for _, d := range dep {
+		if !math.IsNaN(d) {
+			v = append(v, d)
 		}
 	}
 	t := RelationTest{Name: "mean departure", N: len(v), Statistic: math.NaN(), P: math.NaN()}
@@ -189,17 +162,12 @@ func WeightedMeanDepartureTest(dep, w []float64) RelationTest {
 	if len(v) < 2 {
 		return t
 	}
-	var sw float64
-	for _, wi := range ws {
-		sw += wi
-	}
 	var mean, ss float64
-	for i, d := range v {
-		ws[i] *= n / sw // mean 1
-		mean += ws[i] * d / n
+	for _, d := range v {
+		mean += d / n
 	}
-	for i, d := range v {
-		ss += ws[i] * (d - mean) * (d - mean)
+	for _, d := range v {
+		ss += (d - mean) * (d - mean)
 	}
 	sd := math.Sqrt(ss / (n - 1))
 	if !(sd > 0) {

@@ -6,6 +6,8 @@ import (
 	"sort"
 
 	"gonum.org/v1/gonum/mat"
+
+	"wetline/rating"
 )
 
 // ErrJohnson is returned when Johnson's method has no answer: stages not
@@ -63,6 +65,35 @@ type JohnsonEstimate struct {
 	// Q1, Q2, Q3 are the three discharges (discharge unit), Q₂ = √(Q₁·Q₃),
 	// and G1, G2, G3 the gauge heights read for them (length unit).
 	Q1, Q2, Q3, G1, G2, G3 float64
+}
+
+// judge checks a made estimate against the first control's offset b of
+// gauged depth depth (length unit of u): an estimate whose 95 %
+// uncertainty exceeds JohnsonCheckFraction·depth, or is not known, is
+// marked Undetermined with a Note that says why; otherwise the warning is
+// returned when e differs from b by more than that ("" when it does not).
+func (j *JohnsonEstimate) judge(b, depth float64, u rating.Units) string {
+	L := u.Length()
+	limit := JohnsonCheckFraction * depth
+	unc := CoverageFactor95 * j.ZeroFlowSE
+	switch {
+	case math.IsNaN(unc):
+		j.Undetermined = true
+		j.Note = sayf("not determined: e = %s %s from gauge heights %s to %s %s, its uncertainty not known (the curve read at G₁, G₂, G₃ "+
+			"has no scatter to measure it by), so it cannot tell the offset wrong by %s %s (%.0f %% of the first control's gauged depth)",
+			rating.PlainFigures(j.ZeroFlow, 3), L, gh(j.G1), gh(j.G3), L, rating.PlainFigures(limit, 2), L, 100*JohnsonCheckFraction)
+	case !(unc <= limit):
+		j.Undetermined = true
+		j.Note = sayf("not determined: e = %s ± %s %s (95 %%) from gauge heights %s to %s %s, over which the curve is nearly straight "+
+			"(G₁ + G₃ − 2·G₂ = %s %s): the range is too short for the method, its uncertainty more than the %s %s "+
+			"(%.0f %% of the first control's gauged depth) by which the check would tell the offset wrong",
+			rating.PlainFigures(j.ZeroFlow, 3), rating.PlainFigures(unc, 2), L, gh(j.G1), gh(j.G3), L,
+			rating.PlainFigures(j.G1+j.G3-2*j.G2, 2), L, rating.PlainFigures(limit, 2), L, 100*JohnsonCheckFraction)
+	case math.Abs(j.ZeroFlow-b) > limit:
+		return sayf("Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
+			j.ZeroFlow, L, b, L, 100*JohnsonCheckFraction)
+	}
+	return ""
 }
 
 // JohnsonZeroFlowSE returns the standard error of Johnson's e from the

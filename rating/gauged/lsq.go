@@ -175,9 +175,8 @@ type ControlFit struct {
 	// order, those left out marked Excluded with their reason.
 	Residuals []Residual
 	// Tests are the ISO 1100-2 tests of the relation on the fitted
-	// gaugings' departures ln Q − ln Q_rating, in order of stage, the
-	// mean departure weighted as the fit weights the gaugings
-	// (WeightedRelationChecks).
+	// gaugings' departures ln Q − ln Q_rating, in order of stage, each
+	// of equal weight (RelationChecks).
 	Tests RelationTests
 	// Johnson is Johnson's three-point estimate of the first offset, a
 	// check on the fitted one.
@@ -336,8 +335,9 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	sort.Ints(m.free)
 	n, np := d.n(), len(m.free)
 	if n < np+1 || n < k*MinPerSegment {
-		return nil, nil, nil, errorf("%w: %d gaugings used for %d parameters and %d controls of at least %d gaugings each",
-			ErrFewGaugings, n, np, k, MinPerSegment)
+		return nil, nil, nil, errorf("%w: %s used for %s and %s of at least %s each",
+			ErrFewGaugings, rating.Counted(n, "gauging", "gaugings"), rating.Counted(np, "parameter", "parameters"), rating.Counted(k, "control", "controls"),
+			rating.Counted(MinPerSegment, "gauging", "gaugings"))
 	}
 	if !(d.hi > d.lo) {
 		return nil, nil, nil, errorf("%w: all gaugings are at stage %g", ErrFewGaugings, d.lo)
@@ -373,8 +373,8 @@ type BelowZeroError struct {
 
 func (e *BelowZeroError) Error() string {
 	L := e.Units.Length()
-	return sayf("%d of the %d gaugings used lie at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
-		"a rating has no discharge there (%v)", e.Count, e.Used, gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
+	return sayf("%d of the %s used %s at or below the gauge height of zero flow %s %s (%s), the lowest %s at %s %s: "+
+		"a rating has no discharge there (%v)", e.Count, rating.Counted(e.Used, "gauging", "gaugings"), rating.Agree(e.Count, "lies", "lie"), gh(e.ZeroFlow), L, e.Source, e.Lowest, gh(e.Stage), L, ErrBelowZero)
 }
 
 func (e *BelowZeroError) Unwrap() error { return ErrBelowZero }
@@ -498,8 +498,9 @@ func (p *lsqProblem) runaway(x []float64) int {
 
 // runawayError is FitControls's error for control j (from 0) of rating r
 // whose exponent ran past MaxFitExponent: it names the control, its
-// stages and gaugings, the exponent and offset the search reached and
-// the discharge it takes over from, and wraps ErrRunawayExponent.
+// stages and gaugings, the exponent and offset the search reached, how
+// far the offset lies below the control's lowest gauging, and the
+// discharge it takes over from, and wraps ErrRunawayExponent.
 func (p *lsqProblem) runawayError(j int, x []float64) error {
 	r, _ := p.m.rating(p.m.full(x))
 	c := r.Controls[j]
@@ -526,10 +527,17 @@ func (p *lsqProblem) runawayError(j int, x []float64) error {
 		what = sayf("control %d (from %s %s%s)", j+1, gh(c.From), L, held)
 		rises = sayf("from the %s %s that control %d gives at %s %s, its gaugings rise", rating.PlainFigures(r.upTo(j-1, c.From), 4), Q, j, gh(c.From), L)
 	}
-	return errorf("%w: %s: its least-squares exponent is %s, above %s, more than any control's, with its offset at %s %s, %s %s below where it starts%s; "+
+	below := ""
+	switch {
+	case len(hs) > 0:
+		below = sayf(", %s %s below its lowest gauging", rating.PlainFigures(hs[0]-c.B, 3), L)
+	case j > 0:
+		below = sayf(", %s %s below where it starts", rating.PlainFigures(c.From-c.B, 3), L)
+	}
+	return errorf("%w: %s: its least-squares exponent is %s, above %s, more than any control's, with its offset at %s %s%s%s; "+
 		"%s nearly as an exponential in stage, not as a control's power law (h − B)^C: move the breakpoint, fit fewer controls, or fit by --method bayes, whose prior holds the exponent",
 		ErrRunawayExponent, what, rating.PlainFigures(c.C, 3), rating.PlainFigures(MaxFitExponent, 3), rating.PlainFigures(c.B, 4), L,
-		rating.PlainFigures(c.From-c.B, 3), L, endless, rises)
+		below, endless, rises)
 }
 
 // runawayLogA is the ln A below which a control's coefficient is taken to
@@ -707,14 +715,14 @@ func (p *lsqProblem) sequential(br []float64) ([]float64, error) {
 				for _, y := range ys {
 					qlo, qhi = math.Min(qlo, math.Exp(y)), math.Max(qhi, math.Exp(y))
 				}
-				return nil, errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %d gaugings (%g to %g, discharge %.4g to %.4g) do not rise from it: try another breakpoint or fewer controls",
-					ErrNoStart, j+1, br[j-1], q0, j, len(hs), hs[0], hs[len(hs)-1], qlo, qhi)
+				return nil, errorf("%w: control %d takes over at gauge height %g from the discharge %.4g that control %d gives there, but its %s (%g to %g, discharge %.4g to %.4g) %s not rise from it: try another breakpoint or fewer controls",
+					ErrNoStart, j+1, br[j-1], q0, j, rating.Counted(len(hs), "gauging", "gaugings"), hs[0], hs[len(hs)-1], qlo, qhi, rating.Agree(len(hs), "does", "do"))
 			}
 		}
 		full[m.iLnA(j)], full[m.iC(j)] = lnA, c
 		if _, ok := p.m.ratingUpTo(full, j); !ok {
-			return nil, errorf("%w: control %d, from gauge height %g, makes no rating joined to control %d there (coefficient %.3g, exponent %.3g) through its %d gaugings (%g to %g): try another breakpoint or fewer controls",
-				ErrNoStart, j+1, br[j-1], j, math.Exp(lnA), c, len(hs), hs[0], hs[len(hs)-1])
+			return nil, errorf("%w: control %d, from gauge height %g, makes no rating joined to control %d there (coefficient %.3g, exponent %.3g) through its %s (%g to %g): try another breakpoint or fewer controls",
+				ErrNoStart, j+1, br[j-1], j, math.Exp(lnA), c, rating.Counted(len(hs), "gauging", "gaugings"), hs[0], hs[len(hs)-1])
 		}
 	}
 	return full, nil
@@ -968,7 +976,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	for i, h := range d.h {
 		dep[i] = d.y[i] - logQ(f.Rating, h)
 	}
-	f.Tests = WeightedRelationChecks(dep, d.w)
+	f.Tests = RelationChecks(dep)
 	for _, t := range []RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		if t.Failed {
 			f.Warnings = append(f.Warnings, sayf("the %s test of the relation fails (p = %.3g < %g, ISO 1100-2): the rating misses the gaugings systematically", t.Name, t.P, RelationTestLevel))
@@ -979,21 +987,9 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 		top = f.Rating.Controls[1].From
 	}
 	f.Johnson = johnsonFromData(d, top)
-	if b := f.Rating.Controls[0].B; f.Johnson.OK {
-		depth := math.Min(top, d.hi) - b
-		j := &f.Johnson
-		if u := CoverageFactor95 * j.ZeroFlowSE; !(u <= JohnsonCheckFraction*depth) {
-			j.Undetermined = true
-			j.Note = sayf("not determined: e = %s ± %s %s (95 %%) from gauge heights %s to %s %s, over which the curve is nearly straight "+
-				"(G₁ + G₃ − 2·G₂ = %s %s): the range is too short for the method, its uncertainty more than the %s %s "+
-				"(%.0f %% of the first control's gauged depth) by which the check would tell the offset wrong",
-				rating.PlainFigures(j.ZeroFlow, 3), rating.PlainFigures(u, 2), f.Units.Length(), gh(j.G1), gh(j.G3), f.Units.Length(),
-				rating.PlainFigures(j.G1+j.G3-2*j.G2, 2), f.Units.Length(), rating.PlainFigures(JohnsonCheckFraction*depth, 2), f.Units.Length(),
-				100*JohnsonCheckFraction)
-		} else if math.Abs(f.Johnson.ZeroFlow-b) > JohnsonCheckFraction*depth {
-			f.Warnings = append(f.Warnings, sayf(
-				"Johnson's three-point estimate of the gauge height of zero flow, %.3g %s, differs from the first control's offset %.3g %s by more than %.0f %% of its gauged depth: check the offset",
-				f.Johnson.ZeroFlow, f.Units.Length(), b, f.Units.Length(), 100*JohnsonCheckFraction))
+	if f.Johnson.OK {
+		if w := f.Johnson.judge(f.Rating.Controls[0].B, math.Min(top, d.hi)-f.Rating.Controls[0].B, f.Units); w != "" {
+			f.Warnings = append(f.Warnings, w)
 		}
 	}
 	var fitted []Gauging

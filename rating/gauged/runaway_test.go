@@ -2,8 +2,10 @@ package gauged_test
 
 import (
 	"errors"
+	"math"
 	"strings"
 	"testing"
+	"time"
 
 	"wetline/rating"
 	"wetline/rating/gauged"
@@ -56,5 +58,27 @@ func TestFitRunawayExponentOneRule(t *testing.T) {
 				t.Errorf("bayes %v: control %d has exponent %g at the mode", tc.breaks, j+1, c.C)
 			}
 		}
+	}
+}
+
+// An invented scenario: seven gaugings from 1.5 to 1.66 m rising as
+// Q = 0.3·e^(2h) (an exponential, closed form), which no power law of
+// one control fits; least squares runs the exponent away and is
+// refused. The offset is measured from the control's lowest gauging
+// (1.5 m), not from the control's start, which for the first control is
+// the offset itself ("0 m below where it starts" before).
+func TestFitRunawayExponentSaysDepthBelowGaugings(t *testing.T) {
+	var gs []gauged.Gauging
+	for i, h := range []float64{1.5, 1.52, 1.55, 1.58, 1.6, 1.63, 1.66} {
+		gs = append(gs, gauged.Gauging{Time: time.Date(2024, time.Month(i+1), 10, 10, 0, 0, 0, time.UTC), Stage: h,
+			Discharge: 0.3 * math.Exp(2*h), Quality: rating.Good})
+	}
+	_, err := gauged.FitControls(gs, gauged.ControlOptions{Units: rating.SI})
+	if !errors.Is(err, gauged.ErrRunawayExponent) {
+		t.Fatalf("err = %v, want ErrRunawayExponent", err)
+	}
+	msg := err.Error()
+	if strings.Contains(msg, "0 m below where it starts") || !strings.Contains(msg, "m below its lowest gauging") {
+		t.Errorf("err = %v, want the offset's depth below the lowest gauging", err)
 	}
 }

@@ -94,7 +94,7 @@ func breakList(breaks []float64, L string) string {
 	if len(s) == 1 {
 		return "breakpoint given at " + s[0] + " " + L
 	}
-	return "breakpoints given at " + strings.Join(s[:len(s)-1], ", ") + " and " + s[len(s)-1] + " " + L
+	return "breakpoints given at " + rating.JoinAnd(s) + " " + L
 }
 
 // firstIn is the index of the first gauging of d (stages ascending) at or

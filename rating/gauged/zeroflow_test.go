@@ -34,7 +34,7 @@ func TestBelowZeroError(t *testing.T) {
 		lowest, words string
 	}{
 		{"above all, lsq", 5, gauged.LeastSquares, 10, "g.csv:2", "10 of the 10 gaugings used lie at or below the gauge height of zero flow 5 m (given), the lowest g.csv:2 at 0.8 m"},
-		{"at the lowest, bayes", 0.8, gauged.Bayesian, 1, "g.csv:2", "1 of the 10 gaugings used lie at or below the gauge height of zero flow 0.8 m (given), the lowest g.csv:2 at 0.8 m"},
+		{"at the lowest, bayes", 0.8, gauged.Bayesian, 1, "g.csv:2", "1 of the 10 gaugings used lies at or below the gauge height of zero flow 0.8 m (given), the lowest g.csv:2 at 0.8 m"},
 		{"between, lsq", 1.1, gauged.LeastSquares, 2, "g.csv:2", "2 of the 10"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

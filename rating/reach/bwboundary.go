@@ -68,6 +68,10 @@ type Boundary struct {
 	// Words, reports): a table read log-linearly in (h − e), say. An error
 	// wrapping ErrBoundaryRange is returned as it is.
 	StageOf func(q float64) (float64, error)
+	// Warnings are unusual but legal facts of how the boundary is read (a
+	// rating table read linearly in stage, say); the computation reports
+	// them among its warnings.
+	Warnings []string
 }
 
 // Errors of the boundary, for errors.Is.

@@ -3,6 +3,7 @@ package reach
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -140,6 +141,11 @@ func TestBackwaterOrderWarnings(t *testing.T) {
 		{"downstream first", true, [3]float64{101.3, 101.4, 101.5}, "the bed and the high-water marks both rise downstream over the reach (thalweg of P0 at 99.800, of P2 at 100.000 m; marks of P0 at 101.300, of P2 at 101.500 m): the reach is most likely listed downstream first"},
 		{"marks rise only", false, [3]float64{101.3, math.NaN(), 101.5}, "the high-water marks rise 0.2 m downstream over the reach (P0 at 101.300, P2 at 101.500 m), which a steady water surface does not"},
 		{"bed rises only, no marks", true, [3]float64{math.NaN(), math.NaN(), math.NaN()}, "the bed rises 0.2 m downstream over the reach (thalweg of P0 at 99.800, of P2 at 100.000 m): a riffle or weir below a pool does this"},
+		// Marks 1 mm higher downstream (the trial's rv-flatmarks.csv)
+		// and 0.029 m higher lie within a good mark's band, 0.03 m
+		// (DefaultMarkSDSI, unrated marks): no rise.
+		{"marks 1 mm higher downstream", false, [3]float64{101.545, math.NaN(), 101.546}, ""},
+		{"marks 29 mm higher downstream", false, [3]float64{101.5, math.NaN(), 101.529}, ""},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
@@ -167,5 +173,34 @@ func TestBackwaterOrderWarnings(t *testing.T) {
 				t.Errorf("warnings %q, want one starting %q", res.Warnings, c.want)
 			}
 		})
+	}
+}
+
+// A thalweg 0.02 m higher at the last section than at the first (the
+// prisms' bed falling 0.0001 over 100 m, listed in reverse: 0.01 m per
+// subreach, closed form) lies within what a survey tells, less than
+// BedRiseSI: no warning of a rising bed.
+func TestBackwaterOrderWarningsBedTolerance(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.0001)
+	for i, j := 0, len(secs)-1; i < j; i, j = i+1, j-1 {
+		secs[i].Geometry, secs[j].Geometry = secs[j].Geometry, secs[i].Geometry
+	}
+	for _, w := range orderWarnings(secs, rating.SI) {
+		t.Errorf("warning %q for a bed rising 0.02 m", w)
+	}
+}
+
+// A boundary's own warnings (a rating table read linearly, say) are
+// reported among the computation's.
+func TestBackwaterReportsBoundaryWarnings(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=10,side=2", subdivide.Uniform(0.03), 3, 100, 0.001)
+	const w = "r.csv: the boundary rating has no row without flow, so it is read linearly in stage between rows"
+	b := Boundary{Kind: StageRating, Rating: []StageDischarge{{Stage: 99.9, Discharge: 5}, {Stage: 102, Discharge: 80}}, Warnings: []string{w}}
+	res, err := ComputeBackwater(secs, []float64{20}, b, BackwaterOptions{Units: rating.SI})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !slices.Contains(res.Warnings, w) {
+		t.Errorf("warnings %q lack the boundary's", res.Warnings)
 	}
 }

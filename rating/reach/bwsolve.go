@@ -79,6 +79,10 @@ func newBWRun(secs []Section, b Boundary, opt BackwaterOptions) (*bwRun, error) 
 		}
 		r.walls[i] = math.NaN()
 	}
+	r.warnings = append(r.warnings, b.Warnings...)
+	if opt.Second != nil {
+		r.warnings = append(r.warnings, opt.Second.Warnings...)
+	}
 	r.warnings = append(r.warnings, r.bankWarnings()...)
 	r.warnings = append(r.warnings, orderWarnings(secs, opt.Units)...)
 	return r, nil
@@ -125,17 +129,9 @@ func (r *bwRun) bankWarnings() []string {
 	return []string{fmt.Sprintf("%s %s %s no bank marks, so all %s conveyance is the channel's: the overbank flow lengths of %s %s "+
 		"cannot be applied at %s, and the channel flow length is used for %s of the weighted length; "+
 		"mark %s banks for the overbank lengths to count",
-		rating.Agree(n, "section", "sections"), joinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
-		rating.Agree(len(parts), "the subreach", "the subreaches"), joinAnd(parts), rating.Agree(n, "it", "them"),
+		rating.Agree(n, "section", "sections"), rating.JoinAnd(ids), rating.Agree(n, "has", "have"), rating.Agree(n, "its", "their"),
+		rating.Agree(len(parts), "the subreach", "the subreaches"), rating.JoinAnd(parts), rating.Agree(n, "it", "them"),
 		rating.Agree(n, "its half", "their halves"), rating.Agree(n, "its", "their"))}
-}
-
-// joinAnd joins words as "a", "a and b", "a, b and c".
-func joinAnd(w []string) string {
-	if len(w) < 2 {
-		return strings.Join(w, "")
-	}
-	return strings.Join(w[:len(w)-1], ", ") + " and " + w[len(w)-1]
 }
 
 // hasOverbank reports whether g has a subsection in an overbank region.
@@ -151,16 +147,22 @@ func hasOverbank(g subdivide.Geometry) bool {
 // orderWarnings returns warnings when the reach, listed upstream first,
 // may be listed downstream first: the high-water marks (the mean of a
 // section's given marks) at the last section with marks above those at
-// the first, which a steady profile does not do; or the thalweg (lowest
-// ground) of the last section above that of the first. Neither is
-// refused. A bed may rise over a short reach (a riffle or weir below a
-// pool, the very control a gauge above it relies on), so a rising bed
-// alone is worded as a question; with the marks rising too, the reach is
-// most likely listed the wrong way round, and the warning says so.
+// the first by more than the marks' band (markBand, the larger of the
+// two sections'), which a steady profile does not do; or the thalweg
+// (lowest ground) of the last section above that of the first by more
+// than BedRiseSI or BedRiseUS. Neither is refused. A bed may rise over a
+// short reach (a riffle or weir below a pool, the very control a gauge
+// above it relies on), so a rising bed alone is worded as a question;
+// with the marks rising too, the reach is most likely listed the wrong
+// way round, and the warning says so.
 func orderWarnings(secs []Section, u rating.Units) []string {
 	first, last := secs[0], secs[len(secs)-1]
 	zu, zd := first.Geometry.Bottom(), last.Geometry.Bottom()
-	bedRises := zd > zu
+	bedTol := BedRiseSI
+	if u == rating.US {
+		bedTol = BedRiseUS
+	}
+	bedRises := zd-zu > bedTol
 	up, down := -1, -1
 	for i, s := range secs {
 		if finite(markMean(s)) {
@@ -174,7 +176,7 @@ func orderWarnings(secs []Section, u rating.Units) []string {
 	var hu, hd float64
 	if up >= 0 && down > up {
 		hu, hd = markMean(secs[up]), markMean(secs[down])
-		marksRise = hd > hu
+		marksRise = hd-hu > math.Max(markBand(secs[up], u), markBand(secs[down], u))
 	}
 	const check = "check that the sections are listed upstream first, with distances increasing downstream"
 	var out []string
@@ -193,6 +195,33 @@ func orderWarnings(secs []Section, u rating.Units) []string {
 			zd-zu, u.Length(), first.ID, zu, last.ID, zd, u.Length()))
 	}
 	return out
+}
+
+// BedRiseSI and BedRiseUS are the rise of the thalweg from the first
+// section to the last (m, ft) that orderWarnings takes for a rise: less is
+// within what a surveyed thalweg can tell (a few centimetres, common
+// practice).
+const (
+	BedRiseSI = 0.05
+	BedRiseUS = 0.15
+)
+
+// markBand is the elevation band within which a section's marks may
+// differ from the water surface (length unit of u): its MarkSD when
+// given, else its quality's band (rating.Quality.MarkSD), else the band
+// of a good mark, DefaultMarkSDSI or DefaultMarkSDUS (0.03 m or 0.1 ft,
+// common practice).
+func markBand(s Section, u rating.Units) float64 {
+	if s.MarkSD > 0 {
+		return s.MarkSD
+	}
+	if sd, ok := s.Quality.MarkSD(u); ok {
+		return sd
+	}
+	if u == rating.US {
+		return DefaultMarkSDUS
+	}
+	return DefaultMarkSDSI
 }
 
 // markMean is the mean of a section's given high-water marks (NaN when
@@ -903,5 +932,5 @@ func dischargeRuns(rows []RatingRead, u rating.Units) string {
 	if len(runs) > maxRuns {
 		return fmt.Sprintf("%s %s and %d more runs", strings.Join(runs[:maxRuns-1], ", "), u.Discharge(), len(runs)-(maxRuns-1))
 	}
-	return joinAnd(runs) + " " + u.Discharge()
+	return rating.JoinAnd(runs) + " " + u.Discharge()
 }

@@ -555,8 +555,13 @@ func (res *Result) summarize(c *counter) {
 }
 
 // FormatDuration writes a duration as reports state gaps and as a command
-// line takes them, without zero minutes or seconds: 2h, 1h30m, 45m.
+// line takes them, without zero minutes or seconds: 2h, 1h30m, 45m; from
+// LongDuration on in days and the rest, as formatSeconds (3 days,
+// 146460 days 21h59m), whole seconds.
 func FormatDuration(d time.Duration) string {
+	if d >= LongDuration {
+		return formatSeconds(int64(d / time.Second))
+	}
 	s := d.String()
 	if strings.HasSuffix(s, "m0s") {
 		s = strings.TrimSuffix(s, "0s")
@@ -567,11 +572,24 @@ func FormatDuration(d time.Duration) string {
 	return s
 }
 
+// LongDuration is the length of time from which FormatDuration and
+// formatSeconds count days: hours beyond two days are hard to read
+// (3515061h59m).
+const LongDuration = 48 * time.Hour
+
 // formatSeconds writes a length of time of sec ≥ 0 seconds as
-// FormatDuration writes it (2h, 1h30m, 45m, 26h0m15s) however long it is:
-// in hours, minutes and seconds counted in int64 seconds, where a
-// time.Duration holds at most 292 years.
+// FormatDuration writes it (2h, 1h30m, 45m, 26h0m15s, 3 days 2h) however
+// long it is, counted in int64 seconds, where a time.Duration holds at
+// most 292 years: from LongDuration on as days of 24 h and the rest.
 func formatSeconds(sec int64) string {
+	if long := int64(LongDuration / time.Second); sec >= long {
+		days, rest := sec/86400, sec%86400
+		out := rating.Counted(int(days), "day", "days")
+		if rest > 0 {
+			out += " " + formatSeconds(rest)
+		}
+		return out
+	}
 	h, m, s := sec/3600, sec/60%60, sec%60
 	switch {
 	case h == 0 && m == 0:

@@ -355,10 +355,11 @@ func TestRecordGaugings(t *testing.T) {
 }
 
 // TestFormatSeconds: a length of time in seconds is written as
-// FormatDuration writes the time.Duration (the standard library's
-// Duration.String, the reference) wherever a Duration holds it, on seeded
-// random lengths up to 200 years and on the edges; beyond 292 years, where
-// a Duration overflows, by hand: 146 461 days of 24 h are 3 515 064 h.
+// FormatDuration writes the time.Duration wherever a Duration holds it, on
+// seeded random lengths up to 200 years and on the edges; below two days
+// as the standard library's Duration.String (the reference) without zero
+// minutes or seconds; beyond 292 years, where a Duration overflows, by
+// hand: 146 461 days, and 500 · 365.25 days = 182 625 days.
 func TestFormatSeconds(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 1))
 	secs := []int64{0, 1, 59, 60, 61, 3599, 3600, 3601, 3660, 86400, 90061}
@@ -371,10 +372,10 @@ func TestFormatSeconds(t *testing.T) {
 			t.Fatalf("%d s: %q, want %q", s, got, want)
 		}
 	}
-	if got := formatSeconds(146461 * 86400); got != "3515064h" {
+	if got := formatSeconds(146461 * 86400); got != "146461 days" {
 		t.Errorf("146 461 days: %q", got)
 	}
-	if got := formatSeconds(MaxSpan + 61); got != "4383000h1m1s" { // 500 · 365.25 · 24 h = 4 383 000 h
+	if got := formatSeconds(MaxSpan + 61); got != "182625 days 1m1s" {
 		t.Errorf("MaxSpan + 61 s: %q", got)
 	}
 }
@@ -384,8 +385,9 @@ func TestFormatSeconds(t *testing.T) {
 // day, 401·365 + 97 leap days − 1 = 146 461 days apart plus the first,
 // 146 462 (Gregorian rule: every fourth year but 1800, 1900, 2100 and
 // 2200); its gap, from 00:15 on the first day to the last day's midnight,
-// is stated in hours, 146 461 · 24 h − 15 min = 3 515 063 h 45 min, where
-// a time.Duration (at most 292 years) would overflow.
+// is stated in days, 146 461 days − 15 min = 146 460 days 23 h 45 min,
+// where a time.Duration (at most 292 years) would overflow, and hours
+// (3515063h45m) are not read at a glance.
 func TestLongestSpan(t *testing.T) {
 	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("q=10h", 10)}}})
 	st := &Stages{Name: "long", Time: []int64{
@@ -399,7 +401,7 @@ func TestLongestSpan(t *testing.T) {
 	if last := res.Daily[len(res.Daily)-1].Date; !last.Equal(time.Date(2200, 12, 31, 0, 0, 0, 0, time.UTC)) {
 		t.Errorf("last day %v", last)
 	}
-	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "1 gap longer than 2h is not bridged (the longest 3515063h45m, from 1800-01-01T00:15:00Z)") {
+	if w := strings.Join(res.Warnings, "\n"); !strings.Contains(w, "1 gap longer than 2h is not bridged (the longest 146460 days 23h45m, from 1800-01-01T00:15:00Z)") {
 		t.Errorf("warnings %q", res.Warnings)
 	}
 }
@@ -408,7 +410,10 @@ func TestFormatDuration(t *testing.T) {
 	for _, c := range []struct {
 		d    time.Duration
 		want string
-	}{{2 * time.Hour, "2h"}, {90 * time.Minute, "1h30m"}, {45 * time.Minute, "45m"}, {44*time.Hour + 45*time.Minute, "44h45m"}, {30 * time.Second, "30s"}, {time.Hour + 5*time.Second, "1h0m5s"}} {
+	}{{2 * time.Hour, "2h"}, {90 * time.Minute, "1h30m"}, {45 * time.Minute, "45m"}, {44*time.Hour + 45*time.Minute, "44h45m"}, {30 * time.Second, "30s"}, {time.Hour + 5*time.Second, "1h0m5s"},
+		// From two days on, days of 24 h and the rest (by hand).
+		{47*time.Hour + 59*time.Minute, "47h59m"}, {48 * time.Hour, "2 days"}, {75*time.Hour + 30*time.Minute, "3 days 3h30m"},
+		{time.Duration(100000*24+21)*time.Hour + 59*time.Minute, "100000 days 21h59m"}} {
 		if got := FormatDuration(c.d); got != c.want {
 			t.Errorf("%v: %q, want %q", c.d, got, c.want)
 		}

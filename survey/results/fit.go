@@ -236,6 +236,8 @@ type jsonTests struct {
 }
 
 type jsonJohnson struct {
+	// OK: the estimate was made and is determined, so it checks the
+	// offset (as Determined; false when not made or not determined).
 	OK            bool   `json:"ok"`
 	ZeroFlowStage Float  `json:"zero_flow_stage"`
 	Q1            Float  `json:"q1"`
@@ -429,7 +431,7 @@ func fillJSONFit(out *jsonFitReport, r *gauged.Report, f *gauged.ControlFit) {
 	test := func(t gauged.RelationTest) jsonTest { return jsonTest{t.N, Float(t.Statistic), Float(t.P), t.Failed} }
 	out.Tests = &jsonTests{Float(gauged.RelationTestLevel), test(f.Tests.Sign), test(f.Tests.Runs), test(f.Tests.Mean)}
 	j := f.Johnson
-	out.Johnson = &jsonJohnson{j.OK, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
+	out.Johnson = &jsonJohnson{j.OK && !j.Undetermined, Float(j.ZeroFlow), Float(j.Q1), Float(j.Q2), Float(j.Q3), Float(j.G1), Float(j.G2), Float(j.G3), j.Note,
 		Float(j.ZeroFlowSE), j.OK && !j.Undetermined}
 	if p := f.Posterior; p != nil {
 		jp := &jsonPosterior{Parameters: []jsonParam{}, RHatMax: Float(p.RHatMax), RHatParameter: p.RHatParam, ESSMin: Float(p.ESSMin),
@@ -760,9 +762,9 @@ func writePosterior(p printer, post *gauged.Posterior) {
 // writeFitChecks writes the ISO tests and Johnson's check.
 func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 	L := r.Units.Length()
-	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2; the mean departure weighted 1/σ², as the fit weights the gaugings; failed below p = %s):\n",
+	p("\nTests of the relation on the fitted gaugings' departures by stage (ISO 1100-2, unweighted departures in ln Q; failed below p = %s):\n",
 		sig(gauged.RelationTestLevel, shortest))
-	for i, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
+	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		verdict := "passes"
 		if t.Failed {
 			verdict = "FAILS"
@@ -770,11 +772,7 @@ func writeFitChecks(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		if math.IsNaN(t.P) {
 			verdict = "not made"
 		}
-		stat := sig(t.Statistic, 4)
-		if i == 2 {
-			stat = fixed(t.Statistic, 3) // Student's t; a least-squares fit's is zero to its tolerance
-		}
-		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, stat, sig(t.P, 3), verdict)
+		p("  %-15s n %3d, statistic %8s, p = %-8s %s\n", t.Name, t.N, sig(t.Statistic, 4), sig(t.P, 3), verdict)
 	}
 	if j := f.Johnson; j.OK && j.Undetermined {
 		p("Johnson's three-point check of the first offset: %s; fitted B = %.4f %s\n", j.Note, f.Controls[0].B, L)

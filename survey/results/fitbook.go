@@ -246,6 +246,9 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("Johnson's three-point zero-flow stage", j.Note, "")
 	} else if j.OK {
 		add("Johnson's three-point zero-flow stage", num("0.0000", j.ZeroFlow), L)
+		if !math.IsNaN(j.ZeroFlowSE) {
+			add("Johnson's zero-flow stage, uncertainty at 95 % (±)", num("0.000", gauged.CoverageFactor95*j.ZeroFlowSE), L)
+		}
 	} else {
 		add("Johnson's three-point zero-flow stage", "not made: "+j.Note, "")
 	}

@@ -219,3 +219,62 @@ func TestFitTextSaysFittedWithoutStandardErrors(t *testing.T) {
 		}
 	}
 }
+
+// Johnson's estimate reads alike in the text, the JSON and the workbook:
+// a determined estimate with its 95 % uncertainty (2 × 0.0125 = 0.025 m,
+// by hand) in all three; one not determined gives its note in the text
+// and the workbook and "ok": false beside "determined": false in the
+// JSON, where "ok" claimed the check was made.
+func TestJohnsonAgreesInTextJSONWorkbook(t *testing.T) {
+	gs := labelGaugings([]float64{0.5, 0.6, 0.7, 0.8, 0.9, 1.0, 1.2, 1.4, 1.6, 1.8, 2.0, 2.2, 2.4, 2.6})
+	for _, tc := range []struct {
+		name       string
+		j          gauged.JohnsonEstimate
+		text, item string
+		ok         bool
+	}{
+		{"determined", gauged.JohnsonEstimate{OK: true, ZeroFlow: 0.31, ZeroFlowSE: 0.025 / gauged.CoverageFactor95,
+			Q1: 0.5, Q2: 2, Q3: 8, G1: 0.55, G2: 0.8, G3: 1.3},
+			"e = 0.3100 ± 0.025 m (95 %)", "0.025|m", true},
+		{"not determined", gauged.JohnsonEstimate{OK: true, Undetermined: true, ZeroFlow: 0.61, ZeroFlowSE: 0.17, Note: "not determined: e = 0.61 ± 0.34 m (95 %)",
+			Q1: 0.5, Q2: 2, Q3: 8, G1: 0.55, G2: 0.8, G3: 1.3},
+			"not determined: e = 0.61 ± 0.34 m (95 %)", "", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rep, err := gauged.Analyze(gs, gauged.Options{Site: "test", Units: rating.SI})
+			if err != nil {
+				t.Fatal(err)
+			}
+			rep.Fit.Johnson = tc.j
+			var text, js, book bytes.Buffer
+			if err := results.WriteFitText(&text, rep); err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(text.String(), tc.text) || strings.Contains(text.String(), "± -") {
+				t.Errorf("text lacks %q:\n%s", tc.text, text.String())
+			}
+			if err := results.WriteFitJSON(&js, rep); err != nil {
+				t.Fatal(err)
+			}
+			var obj struct {
+				Johnson struct {
+					OK         bool `json:"ok"`
+					Determined bool `json:"determined"`
+				} `json:"johnson"`
+			}
+			if err := json.Unmarshal(js.Bytes(), &obj); err != nil {
+				t.Fatal(err)
+			}
+			if obj.Johnson.OK != tc.ok || obj.Johnson.Determined != tc.ok {
+				t.Errorf("JSON johnson ok %v, determined %v, want both %v", obj.Johnson.OK, obj.Johnson.Determined, tc.ok)
+			}
+			if err := results.WriteFitWorkbook(&book, rep); err != nil {
+				t.Fatal(err)
+			}
+			items := summaryItems(t, openWritten(t, &book))
+			if got := items["Johnson's zero-flow stage, uncertainty at 95 % (±)"]; got != tc.item {
+				t.Errorf("workbook ± %q, want %q", got, tc.item)
+			}
+		})
+	}
+}

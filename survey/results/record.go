@@ -549,15 +549,31 @@ func writeRecordGaugingsText(bw *bufio.Writer, res *record.Result, c *gauged.Shi
 	if n := excludedCount(c); n > 0 {
 		excluded = fmt.Sprintf(" (%d excluded)", n)
 	}
-	fmt.Fprintf(bw, "  %d of %s%s %s outside %s from the record\n", out, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), excluded,
-		rating.Agree(out, "lies", "lie"), rating.Agree(out, "its quality band", "their quality bands"))
+	band := rating.Agree(out, "its quality band", "their quality bands")
+	if len(c.Gaugings) == 1 {
+		band = "its quality band"
+	}
+	fmt.Fprintf(bw, "  %s outside %s from the record\n", partOf(out, len(c.Gaugings), "gauging", "gaugings", excluded, "lies", "lie"), band)
 	for _, g := range c.Gaugings {
 		if g.Excluded {
 			fmt.Fprintf(bw, "  excluded, never counted outside its band: %s, %s%s\n", g.Time.In(res.Zone).Format(RecordTimeLayout), excludeReason(g), sourceNote(g.Source))
 		}
 	}
-	fmt.Fprintf(bw, "  %d of %s %s from the recorded stage by more than %s\n", beyond, rating.Counted(len(c.Gaugings), "gauge height", "gauge heights"),
-		rating.Agree(beyond, "differs", "differ"), tol)
+	fmt.Fprintf(bw, "  %s from the recorded stage by more than %s\n", partOf(beyond, len(c.Gaugings), "gauge height", "gauge heights", "", "differs", "differ"), tol)
+}
+
+// partOf words k of n things (one, many) doing something (verb agreeing
+// with one or many, many the plain form), with note after the count:
+// "2 of 5 gaugings lie", "1 of 5 gaugings lies", and of a single thing
+// "the 1 gauging lies" or "the 1 gauging does not lie".
+func partOf(k, n int, one, many, note, verbOne, verbMany string) string {
+	if n == 1 {
+		if k == 1 {
+			return "the 1 " + one + note + " " + verbOne
+		}
+		return "the 1 " + one + note + " does not " + verbMany
+	}
+	return fmt.Sprintf("%d of %s%s %s", k, rating.Counted(n, one, many), note, rating.Agree(k, verbOne, verbMany))
 }
 
 // excludedStar marks a gauging's departure: x excluded (by its exclude

@@ -240,7 +240,7 @@ func writeSolution(w *bufio.Writer, rep rating.SolveReport) {
 	s := rep.Discharge
 	u := s.Units
 	L := u.Length()
-	plainf(w, "section %s (%s units), discharge %g %s, roughness %s\n", rep.Section, u, s.Discharge, u.Discharge(), compositeWords(rep.Composite))
+	plainf(w, "section %s (%s units), discharge %g %s, roughness %s\n", rep.Section, u, s.Discharge, u.Discharge(), roughnessWords(rep))
 	if s.Slope > 0 {
 		for _, n := range s.Normal {
 			if n.Jump {
@@ -309,6 +309,15 @@ func minimaAtCritical(s *rating.Solution) bool {
 		}
 	}
 	return n == len(s.EnergyMinima)
+}
+
+// roughnessWords says how roughness was handled: none given, which the
+// answer does not use, or compositeWords.
+func roughnessWords(rep rating.SolveReport) string {
+	if rep.NUnset {
+		return "none given (Manning's n plays no part in critical flow in one region)"
+	}
+	return compositeWords(rep.Composite)
 }
 
 // compositeWords says how roughness was handled.
