@@ -24,7 +24,6 @@ func TestUnitsAssumedNote(t *testing.T) {
 		t.Fatal(err)
 	}
 	o := func(name string) string { return filepath.Join(dir, name) }
-	note := func(file string) string { return "input: " + survey.UnitsAssumedNote(file) }
 	for _, tc := range []struct {
 		name  string
 		args  []string
@@ -42,20 +41,7 @@ func TestUnitsAssumedNote(t *testing.T) {
 		{"record --rating", []string{"record", recStages, "--rating", recRatingA, "-o", o("r.csv")}, []string{recRatingA}},
 		{"record --units si", []string{"record", recStages, "--rating", recRatingA, "--units", "si", "-o", o("r2.csv")}, nil},
 	} {
-		t.Run(tc.name, func(t *testing.T) {
-			_, errs, code := runCLI(t, tc.args...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, errs)
-			}
-			if got := strings.Count(errs, "names no unit"); got != len(tc.notes) {
-				t.Errorf("%d notes of units assumed, want %d:\n%s", got, len(tc.notes), errs)
-			}
-			for _, f := range tc.notes {
-				if !strings.Contains(errs, note(f)) {
-					t.Errorf("no note of %s:\n%s", f, errs)
-				}
-			}
-		})
+		t.Run(tc.name, func(t *testing.T) { checkUnitNotes(t, tc.args, tc.notes) })
 	}
 }
 
@@ -84,20 +70,7 @@ func TestUnitsAssumedNoteWritten(t *testing.T) {
 		{"backwater rating boundary in metres", []string{"backwater", path, "--discharges", "5,20", "--boundary", "rating:" + metres, "--at", "XS-1", "-o", filepath.Join(dir, "b2.csv")}, nil},
 		{"record --shifts", []string{"record", recStages, "--rating", recRatingA, "--shifts", recShifts, "-o", filepath.Join(dir, "r.csv")}, []string{recRatingA, recShifts}},
 	} {
-		t.Run(tc.name, func(t *testing.T) {
-			_, errs, code := runCLI(t, tc.args...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, errs)
-			}
-			if got := strings.Count(errs, "names no unit"); got != len(tc.notes) {
-				t.Errorf("%d notes of units assumed, want %d:\n%s", got, len(tc.notes), errs)
-			}
-			for _, f := range tc.notes {
-				if !strings.Contains(errs, "input: "+survey.UnitsAssumedNote(f)) {
-					t.Errorf("no note of %s:\n%s", f, errs)
-				}
-			}
-		})
+		t.Run(tc.name, func(t *testing.T) { checkUnitNotes(t, tc.args, tc.notes) })
 	}
 }
 
@@ -149,5 +122,23 @@ func TestUnitsAssumedNoteInReports(t *testing.T) {
 				t.Errorf("summary input note %q, want %q", got, note)
 			}
 		})
+	}
+}
+
+// checkUnitNotes runs wetline with args and checks that standard error
+// carries one note of units assumed for each file of notes, and no other.
+func checkUnitNotes(t *testing.T, args, notes []string) {
+	t.Helper()
+	_, errs, code := runCLI(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if got := strings.Count(errs, "names no unit"); got != len(notes) {
+		t.Errorf("%d notes of units assumed, want %d:\n%s", got, len(notes), errs)
+	}
+	for _, f := range notes {
+		if !strings.Contains(errs, "input: "+survey.UnitsAssumedNote(f)) {
+			t.Errorf("no note of %s:\n%s", f, errs)
+		}
 	}
 }
