@@ -3,12 +3,15 @@ package workbook
 import (
 	"archive/zip"
 	"bytes"
+	"encoding/xml"
 	"errors"
 	"fmt"
 	"image"
 	_ "image/png" // AddPictureFromBytes and DecodeConfig need the PNG decoder
 	"io"
 	"math"
+	"os"
+	"slices"
 	"strings"
 	"time"
 
@@ -128,7 +131,7 @@ type Picture struct {
 
 // Book builds an xlsx workbook sheet by sheet. Table sheets are written row
 // by row through excelize's StreamWriter, so memory stays bounded however
-// many rows a sheet has, and Write streams the zip straight to its writer.
+// many rows a sheet has, and Write never holds the zipped file in memory.
 // A Book must be closed to remove its temporary files.
 //
 // Use: b := NewBook(); s, _ := b.Table("rating", cols); s.Row(...); s.Flush();
@@ -629,17 +632,121 @@ func PictureScale(w, h int) float64 {
 // ErrOpenSheet is returned by Write while a table sheet is not flushed.
 var ErrOpenSheet = errors.New("a table sheet is not flushed")
 
-// Write writes the workbook as xlsx to w, zipping straight into w so the
-// file is never held in memory whole.
+// Write writes the workbook as xlsx to w. The same book gives the same
+// bytes on every run: excelize zips its streamed sheets and the image
+// types of [Content_Types].xml in map order, so the parts are zipped
+// first to a temporary file, then copied to w (still compressed) in name
+// order, [Content_Types].xml first with its entries sorted. The file is
+// never held in memory whole.
 func (b *Book) Write(w io.Writer) error {
 	if b.pending != nil {
 		return fmt.Errorf("sheet %q: %w", b.pending.name, ErrOpenSheet)
 	}
+	tmp, err := os.CreateTemp("", "wetline-book-*.xlsx")
+	if err != nil {
+		return err
+	}
+	defer os.Remove(tmp.Name())
+	defer tmp.Close()
 	// excelize zips into an in-memory buffer and copies it to w; handing
-	// it a zip writer on w instead leaves that buffer empty.
-	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return datedZip{zip.NewWriter(w)} })
-	_, err := b.f.WriteTo(w)
-	return err
+	// it a zip writer on the file instead leaves that buffer empty.
+	b.f.SetZipWriter(func(io.Writer) excelize.ZipWriter { return datedZip{zip.NewWriter(tmp)} })
+	if _, err := b.f.WriteTo(io.Discard); err != nil {
+		return err
+	}
+	size, err := tmp.Seek(0, io.SeekCurrent)
+	if err != nil {
+		return err
+	}
+	return canonicalZip(w, tmp, size)
+}
+
+// contentTypesPart is the part naming the content type of every other.
+const contentTypesPart = "[Content_Types].xml"
+
+// canonicalZip copies the zip archive in r (size bytes) to w with its
+// entries in name order, [Content_Types].xml first and rewritten by
+// sortedContentTypes. Entries other than that one are copied still
+// compressed.
+func canonicalZip(w io.Writer, r io.ReaderAt, size int64) error {
+	in, err := zip.NewReader(r, size)
+	if err != nil {
+		return err
+	}
+	files := slices.Clone(in.File)
+	slices.SortFunc(files, func(a, b *zip.File) int {
+		if (a.Name == contentTypesPart) != (b.Name == contentTypesPart) {
+			if a.Name == contentTypesPart {
+				return -1
+			}
+			return 1
+		}
+		return strings.Compare(a.Name, b.Name)
+	})
+	out := datedZip{zip.NewWriter(w)}
+	for _, f := range files {
+		if f.Name != contentTypesPart {
+			if err := out.Copy(f); err != nil {
+				return err
+			}
+			continue
+		}
+		rc, err := f.Open()
+		if err != nil {
+			return err
+		}
+		data, err := io.ReadAll(rc)
+		rc.Close()
+		if err != nil {
+			return err
+		}
+		if data, err = sortedContentTypes(data); err != nil {
+			return err
+		}
+		part, err := out.Create(f.Name)
+		if err != nil {
+			return err
+		}
+		if _, err := part.Write(data); err != nil {
+			return err
+		}
+	}
+	return out.Close()
+}
+
+// contentTypes is [Content_Types].xml of the Open Packaging Conventions
+// (ECMA-376 part 2, §10.1.2.2): a default content type per file
+// extension and an override per part.
+type contentTypes struct {
+	XMLName   xml.Name          `xml:"http://schemas.openxmlformats.org/package/2006/content-types Types"`
+	Defaults  []contentDefault  `xml:"Default"`
+	Overrides []contentOverride `xml:"Override"`
+}
+
+type contentDefault struct {
+	Extension   string `xml:",attr"`
+	ContentType string `xml:",attr"`
+}
+
+type contentOverride struct {
+	PartName    string `xml:",attr"`
+	ContentType string `xml:",attr"`
+}
+
+// sortedContentTypes returns the [Content_Types].xml document data with
+// its defaults sorted by extension and its overrides by part name.
+func sortedContentTypes(data []byte) ([]byte, error) {
+	var ct contentTypes
+	if err := xml.Unmarshal(data, &ct); err != nil {
+		return nil, fmt.Errorf("%s: %w", contentTypesPart, err)
+	}
+	slices.SortFunc(ct.Defaults, func(a, b contentDefault) int { return strings.Compare(a.Extension, b.Extension) })
+	slices.SortFunc(ct.Overrides, func(a, b contentOverride) int { return strings.Compare(a.PartName, b.PartName) })
+	body, err := xml.Marshal(ct)
+	if err != nil {
+		return nil, err
+	}
+	return append([]byte(xml.Header), body...), nil
 }
 
 // datedZip is a zip writer whose entries all carry one modification

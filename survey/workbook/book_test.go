@@ -82,3 +82,60 @@ func TestEntriesDated(t *testing.T) {
 		t.Fatal("no entries")
 	}
 }
+
+// The same book gives the same bytes however often it is written:
+// excelize zips streamed sheets and image content types in map order,
+// which Write puts in name order.
+func TestWriteReproducible(t *testing.T) {
+	pic := testPNG(40, 30)
+	write := func() []byte {
+		b := NewBook()
+		defer b.Close()
+		for _, name := range []string{"a", "b", "c", "d", "e"} {
+			s, err := b.Table(name, []Column{{Name: "stage", Unit: "m"}, {Name: "discharge", Unit: "m3/s"}})
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i := range 50 {
+				if err := s.Row(float64(i)/10, float64(i*i)); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if err := s.Flush(); err != nil {
+				t.Fatal(err)
+			}
+		}
+		if err := b.Pictures("figures", []Picture{{Name: "rating", PNG: pic}}); err != nil {
+			t.Fatal(err)
+		}
+		var buf bytes.Buffer
+		if err := b.Write(&buf); err != nil {
+			t.Fatal(err)
+		}
+		return buf.Bytes()
+	}
+	first := write()
+	for i := range 8 {
+		if again := write(); !bytes.Equal(first, again) {
+			t.Fatalf("write %d differs from the first (%d against %d bytes)", i+2, len(again), len(first))
+		}
+	}
+	z, err := zip.NewReader(bytes.NewReader(first), int64(len(first)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if z.File[0].Name != "[Content_Types].xml" {
+		t.Errorf("first entry %s, want [Content_Types].xml", z.File[0].Name)
+	}
+	f, err := excelize.OpenReader(bytes.NewReader(first))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if got := f.GetSheetList(); len(got) != 6 {
+		t.Errorf("sheets %v, want 6", got)
+	}
+	if v, err := f.GetCellValue("e", "B51"); err != nil || v != "2401" {
+		t.Errorf("e!B51 = %q, %v; want 2401", v, err)
+	}
+}
