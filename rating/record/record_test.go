@@ -643,3 +643,59 @@ func TestMissingReadingQuality(t *testing.T) {
 		}
 	}
 }
+
+// TestDailyExtremesAtMidnightBreak: a day runs midnight to midnight, both
+// ends included, so a rating break at the midnight that ends it (a new
+// period or an abrupt diagram) counts into its least and greatest with the
+// discharge in force from the break: on a reading, that reading's unit
+// value (the old side is no unit value); between readings, both sides. The
+// means are those of the trapezoids. Maximum gap 12 h; by hand:
+//
+//	new period on a reading: Q = 10·h, from 24:00 Q = 5·h; 00:00 h=3
+//	  Q=30, 12:00 h=2 Q=20, 24:00 h=2 Q=10 (20 on the old rating), 36:00
+//	  h=2 Q=10. Day 1: least 10 at 24:00, greatest 30 at 00:00, mean
+//	  (½(30+20)·12 + ½(20+20)·12)/24 = 540/24; day 2: 10 at 24:00, mean 10.
+//	abrupt diagram on a reading: Q = 10·h, shift 0 from 00:00, +1 from
+//	  24:00 abrupt; 00:00 h=1 Q=10, 12:00 h=2 Q=20, 24:00 h=2 Q=30 (20
+//	  before the break), 36:00 Q=30. Day 1: least 10 at 00:00, greatest 30
+//	  at 24:00, mean (½(10+20)·12 + 20·12)/24 = 420/24; day 2: 30, mean 30.
+//	abrupt diagram between readings: as above, readings 00:00 h=1, 10:00
+//	  h=1, 20:00 h=2, 28:00 h=2, 36:00 h=2. At 24:00 Q = 20 before, 30
+//	  after. Day 1: least 10 at 00:00, greatest 30 at 24:00, mean (10·10 +
+//	  ½(10+20)·10 + 20·4)/24 = 330/24; day 2: 30 at 24:00, mean 30.
+func TestDailyExtremesAtMidnightBreak(t *testing.T) {
+	shifted := func(s float64) gauged.History {
+		return gauged.History{
+			Periods: []gauged.Period{{Rating: linear("q=10h", 10)}},
+			Shifts: []gauged.ShiftDiagram{
+				{Time: time.Unix(at(0), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0}}},
+				{Time: time.Unix(at(24), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: s}}, Abrupt: true},
+			},
+		}
+	}
+	type day struct {
+		min, max, minAt, maxAt, area float64
+	}
+	for _, tc := range []struct {
+		name string
+		h    gauged.History
+		st   *Stages
+		want []day
+	}{
+		{"new period on a reading", gauged.History{Periods: []gauged.Period{
+			{Rating: linear("q=10h", 10)}, {From: time.Unix(at(24), 0), Rating: linear("q=5h", 5)},
+		}}, stages(0, 3, 12, 2, 24, 2, 36, 2), []day{{10, 30, 24, 0, 540}, {10, 10, 24, 24, 10 * 12}}},
+		{"abrupt diagram on a reading", shifted(1), stages(0, 1, 12, 2, 24, 2, 36, 2), []day{{10, 30, 0, 24, 420}, {30, 30, 24, 24, 30 * 12}}},
+		{"abrupt diagram between readings", shifted(1), stages(0, 1, 10, 1, 20, 2, 28, 2, 36, 2), []day{{10, 30, 0, 24, 330}, {30, 30, 24, 24, 30 * 12}}},
+	} {
+		res := compute(t, tc.st, rater(t, tc.h), Options{MaxGap: 12 * time.Hour})
+		for i, w := range tc.want {
+			d := res.Daily[i]
+			covered := d.Coverage * 24
+			if math.Abs(d.Min-w.min) > meanTol || math.Abs(d.Max-w.max) > meanTol || d.MinTime.Unix() != at(w.minAt) || d.MaxTime.Unix() != at(w.maxAt) ||
+				math.Abs(d.Mean-w.area/covered) > meanTol {
+				t.Errorf("%s: day %d: min %v at %v, max %v at %v, mean %v; want %+v", tc.name, i+1, d.Min, d.MinTime, d.Max, d.MaxTime, d.Mean, w)
+			}
+		}
+	}
+}
