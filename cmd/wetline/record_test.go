@@ -880,3 +880,56 @@ func TestRecordOneGaugingCounted(t *testing.T) {
 		t.Errorf("record report:\n%s", out)
 	}
 }
+
+// TestRecordMidnightBreak: a new rating period at the midnight that ends
+// a day counts into that day's least with the unit discharge of the
+// reading there, as the README says (a day runs midnight to midnight,
+// both ends included; a break on a reading: that reading's unit value).
+// Both tables have zero flow e = 0.2 m and two rows, so the log-linear
+// interpolation in h − e (Kennedy 1983) is the power law through them, by
+// hand: A (0.3 m, 2 m³/s; 1.2 m, 200 m³/s) is Q = 200·(h − 0.2)², B
+// (0.3 m, 1; 1.2 m, 100) is Q = 100·(h − 0.2)². Readings 0.6 m at 00:00
+// (A: 32), 0.5 m at 12:00 (A: 18), 0.5 m at 00:00 the next day when B
+// begins (B: 9; 18 on A) and at 12:00 (B: 9). Day 1: least 9 at the
+// closing midnight, greatest 32, mean (½(32+18)·12 + 18·12)/24 = 21.5
+// (the mean integrates up to the old side); day 2: 9.
+func TestRecordMidnightBreak(t *testing.T) {
+	t.Parallel()
+	const tol = 1e-4 // the JSON's six significant figures
+	dir := t.TempDir()
+	write := func(name, body string) string {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	a := write("a.csv", "stage,discharge\n0.3,2\n1.2,200\n")
+	b := write("b.csv", "stage,discharge\n0.3,1\n1.2,100\n")
+	st := write("stage.csv", "time,stage\n2024-01-01T00:00,0.6\n2024-01-01T12:00,0.5\n2024-01-02T00:00,0.5\n2024-01-02T12:00,0.5\n")
+	out, errs, code := runCLI(t, "record", st, "--rating", a, "--rating", b+"@2024-01-02T00:00", "--zero-flow", "0.2", "--max-gap", "12h", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Daily []struct {
+			Date     string
+			Mean     float64
+			Min, Max float64
+			MinTime  string `json:"min_time"`
+		}
+		Unit []struct{ Discharge float64 }
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if q := doc.Unit[2].Discharge; math.Abs(q-9) > tol {
+		t.Errorf("unit discharge at the break %v, want 9", q)
+	}
+	if d := doc.Daily[0]; math.Abs(d.Min-9) > tol || d.MinTime != "2024-01-02T00:00:00Z" || math.Abs(d.Max-32) > tol || math.Abs(d.Mean-21.5) > tol {
+		t.Errorf("day 1 %+v, want least 9 at 2024-01-02T00:00:00Z, greatest 32, mean 21.5", d)
+	}
+	if d := doc.Daily[1]; math.Abs(d.Min-9) > tol || math.Abs(d.Max-9) > tol || math.Abs(d.Mean-9) > tol {
+		t.Errorf("day 2 %+v, want 9", d)
+	}
+}
