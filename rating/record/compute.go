@@ -346,25 +346,26 @@ func (res *Result) uses(r *gauged.Rater) {
 	res.Warnings = append(res.Warnings, r.Warnings...)
 }
 
-// lowReadings gathers the readings rated below their rating's gauge height
-// of zero flow, and those far below the rating table's lowest row: the
-// marks of a logger's missing-value code (such as -9999) read as a stage.
+// lowReadings gathers the readings rated at or below their rating's gauge
+// height of zero flow, and those far below the rating table's lowest row:
+// the marks of a logger's missing-value code (such as -9999) read as a
+// stage.
 type lowReadings struct {
-	below    int     // readings below zero flow
-	lowest   float64 // the lowest gauge height of those below zero flow
+	below    int     // readings at or below zero flow
+	lowest   float64 // the lowest gauge height of those
 	lowestAt int64   // its time
 }
 
 // take counts unit value u, rated on the table rt (nil without a
-// rating). A reading is below zero flow when it was rated zero flow and
-// its effective gauge height is strictly below the table's zero-flow stage
-// (at it, zero flow is the true discharge). Readings far below the table
+// rating). A reading is counted below zero flow when it is flagged
+// BelowZeroFlow, rated zero flow at or below the table's zero-flow stage:
+// one rule for the flag and the count. Readings far below the table
 // (FarBelowTable) never come here: rateReadings has left them out.
 func (l *lowReadings) take(u *UnitValue, rt *gauged.TableRating) {
 	if rt == nil {
 		return
 	}
-	if e, ok := rt.ZeroFlow(); ok && u.Flags&BelowZeroFlow != 0 && u.Effective < e {
+	if _, ok := rt.ZeroFlow(); ok && u.Flags&BelowZeroFlow != 0 {
 		if l.below == 0 || u.Stage < l.lowest {
 			l.lowest, l.lowestAt = u.Stage, u.Time
 		}
@@ -386,7 +387,7 @@ func (l *lowReadings) warn(n int, z *time.Location, warnings []string) []string 
 	at := func(t int64) string { return time.Unix(t, 0).In(z).Format(time.RFC3339) }
 	if l.below > 0 {
 		k := l.below
-		warnings = append(warnings, fmt.Sprintf("%d of %s %s below the gauge height of zero flow of %s rating and %s rated 0 "+
+		warnings = append(warnings, fmt.Sprintf("%d of %s %s at or below the gauge height of zero flow of %s rating and %s rated 0 "+
 			"(the lowest %g at %s): a reading far below zero flow may be a logger's missing-value code, which pulls daily means down; "+
 			"leave the stage of a missing reading blank", k, rating.Counted(n, "reading", "readings"), rating.Agree(k, "lies", "lie"), rating.Agree(k, "its", "their"),
 			rating.Agree(k, "is", "are"), l.lowest, at(l.lowestAt)))

@@ -2,6 +2,7 @@ package record
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -184,13 +185,14 @@ func TestFlags(t *testing.T) {
 	if math.Abs(d.Coverage-2.0/24) > coverageTol || d.Flags&(NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial) != NoRating|OutsideRating|BelowZeroFlow|AboveGaugings|Partial {
 		t.Errorf("day: coverage %v flags %q", d.Coverage, d.Flags)
 	}
-	if len(res.Warnings) != 4 || !strings.HasPrefix(res.Warnings[0], "1 of 7 readings lies below the gauge height of zero flow") {
+	if len(res.Warnings) != 4 || !strings.HasPrefix(res.Warnings[0], "1 of 7 readings lies at or below the gauge height of zero flow") {
 		t.Errorf("warnings %q", res.Warnings)
 	}
 }
 
-// TestLowReadingWarnings: readings below the gauge height of zero flow are
-// counted with the lowest of them, and readings below the table's lowest
+// TestLowReadingWarnings: readings at or below the gauge height of zero
+// flow (those flagged BelowZeroFlow, one rule for the flag and the count)
+// are counted with the lowest of them, and readings below the table's lowest
 // row by more than its stage range (0.5 to 3 m: below −2 m) are
 // missing-value codes, left out as missing readings and warned of once. The -9999 of the cases stands for a logger's
 // missing-value code (common practice).
@@ -206,16 +208,19 @@ func TestLowReadingWarnings(t *testing.T) {
 		far   string // the warning on readings far below the table ("" none)
 	}{
 		{"all rated", withE, stages(0, 1, 1, 2, 2, 1), "", ""},
-		{"at zero flow is not below", withE, stages(0, 1, 1, 0.2, 2, 1), "", ""},
+		{"at zero flow", withE, stages(0, 1, 1, 0.2, 2, 1),
+			"1 of 3 readings lies at or below the gauge height of zero flow of its rating and is rated 0 (the lowest 0.2 at 2024-01-01T01:00:00Z)", ""},
 		{"just below zero flow", withE, stages(0, 1, 1, 0.1, 2, 0.15, 3, 1),
-			"2 of 4 readings lie below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T01:00:00Z)", ""},
+			"2 of 4 readings lie at or below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.1 at 2024-01-01T01:00:00Z)", ""},
+		{"at and below zero flow", withE, stages(0, 1, 1, 0.2, 2, 0.15, 3, 0.2, 4, 1),
+			"3 of 5 readings lie at or below the gauge height of zero flow of their rating and are rated 0 (the lowest 0.15 at 2024-01-01T02:00:00Z)", ""},
 		// A missing-value code is left out: the other three are rated.
 		{"a missing-value code", withE, stages(0, 1, 1, -9999, 2, 0.1, 3, 1),
-			"1 of 3 readings lies below the gauge height of zero flow of its rating and is rated 0 (the lowest 0.1 at 2024-01-01T02:00:00Z)",
+			"1 of 3 readings lies at or below the gauge height of zero flow of its rating and is rated 0 (the lowest 0.1 at 2024-01-01T02:00:00Z)",
 			"1 reading lies below the lowest row of its rating table by more than the table's whole stage range " +
 				"(the first -9999 at 2024-01-01T01:00:00Z): read as missing-value codes (such as -9999), left out as missing readings"},
 		// 0.5 − 2.5 = −2: −2 itself is not far below, −2.01 is.
-		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lies below the gauge height of zero flow", ""},
+		{"at the bound", withE, stages(0, 1, 1, -2, 2, 1), "1 of 3 readings lies at or below the gauge height of zero flow", ""},
 		{"beyond the bound", withE, stages(0, 1, 1, -2.01, 2, 1), "",
 			"1 reading lies below the lowest row of its rating table"},
 		{"no zero flow: outside the table", noE, stages(0, 1, 1, -9999, 2, -999), "",
@@ -223,6 +228,15 @@ func TestLowReadingWarnings(t *testing.T) {
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			res := compute(t, tc.st, rater(t, gauged.History{Periods: []gauged.Period{{Rating: tc.rt}}}), Options{})
+			flagged := 0
+			for _, u := range res.Units {
+				if u.Flags&BelowZeroFlow != 0 {
+					flagged++
+				}
+			}
+			if want := fmt.Sprintf("%d of ", flagged); flagged > 0 && !strings.HasPrefix(tc.below, want) {
+				t.Errorf("%d readings flagged below zero flow, the case counts %q", flagged, tc.below)
+			}
 			for _, c := range []struct{ want, key string }{{tc.below, "below the gauge height of zero flow"}, {tc.far, "below the lowest row"}} {
 				i := slices.IndexFunc(res.Warnings, func(w string) bool { return strings.Contains(w, c.key) })
 				switch {
