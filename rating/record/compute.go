@@ -185,6 +185,10 @@ type Result struct {
 	// StageTolerance is the stage tolerance used (Options.StageTolerance
 	// resolved).
 	StageTolerance float64
+	// BelowTable and AboveTable are the readings with no discharge for
+	// lying outside their rating table (flagged OutsideRating): below its
+	// lowest row (and above its zero flow) and above its top row.
+	BelowTable, AboveTable TableSide
 	// GaugingsLeftOut is the number of Options.Gaugings outside the
 	// record's span, left out of the check.
 	GaugingsLeftOut int
@@ -192,6 +196,51 @@ type Result struct {
 	Warnings []string
 	// Figures are the record's pictures (none until drawn).
 	Figures []rating.Figure
+}
+
+// TableSide gathers the readings on one side of their rating tables' rows
+// with no discharge (Result.BelowTable, Result.AboveTable).
+type TableSide struct {
+	// Readings is how many there are.
+	Readings int
+	// Lowest and Highest bound their effective gauge heights (shifts
+	// applied; length unit).
+	Lowest, Highest float64
+	// First and Last are the times of the first and the last of them
+	// (Unix seconds).
+	First, Last int64
+	// HighestStage is the greatest recorded gauge height among them, at
+	// HighestAt (the earliest of equal ones; Unix seconds).
+	HighestStage float64
+	HighestAt    int64
+}
+
+// take counts unit value u into the side.
+func (s *TableSide) take(u *UnitValue) {
+	if s.Readings == 0 {
+		*s = TableSide{Lowest: u.Effective, Highest: u.Effective, First: u.Time, HighestStage: u.Stage, HighestAt: u.Time}
+	}
+	s.Readings++
+	s.Lowest, s.Highest, s.Last = min(s.Lowest, u.Effective), max(s.Highest, u.Effective), u.Time
+	if u.Stage > s.HighestStage {
+		s.HighestStage, s.HighestAt = u.Stage, u.Time
+	}
+}
+
+// warn words the side's warning among n readings, "" when it holds none:
+// side says where ("below the lowest row", "above the top row"), L is the
+// length unit and times are in zone z.
+func (s *TableSide) warn(n int, side, L string, z *time.Location) string {
+	if s.Readings == 0 {
+		return ""
+	}
+	at := func(t int64) string { return time.Unix(t, 0).In(z).Format(time.RFC3339) }
+	where := fmt.Sprintf("gauge height (shift applied) %s %s at %s", stageText(s.Lowest), L, at(s.First))
+	if s.Readings > 1 {
+		where = fmt.Sprintf("gauge heights (shifts applied) %s to %s %s, from %s to %s", stageText(s.Lowest), stageText(s.Highest), L, at(s.First), at(s.Last))
+	}
+	return fmt.Sprintf("%d of %s %s %s of %s rating table: %s; no discharge (the rating does not allow extrapolation: --extrapolate rates them)",
+		s.Readings, rating.Counted(n, "reading", "readings"), rating.Agree(s.Readings, "lies", "lie"), side, rating.Agree(s.Readings, "its", "their"), where)
 }
 
 // Compute turns a stage record into the discharge record with the rating
@@ -203,7 +252,10 @@ type Result struct {
 // discharge from that period's rating at the effective gauge height h + s,
 // zero at or below the rating's zero-flow stage. Readings outside every
 // rating period, in a period without a rating or outside the rating table
-// (without extrapolation) have no discharge and are flagged.
+// (without extrapolation) have no discharge and are flagged; those outside
+// the table are gathered and warned of apart below its lowest row and
+// above its top row (Result.BelowTable, Result.AboveTable), each with the
+// span of their effective gauge heights and of their times.
 // Missing readings (Stages.Missing, and readings read as missing-value
 // codes) are listed in Result.Missing, flagged Missing, and computed with
 // nothing.
@@ -515,7 +567,15 @@ func (res *Result) unitValues(r *gauged.Rater, maxGap int64, c *counter) {
 	var low lowReadings
 	for i := range res.Units {
 		u := &res.Units[i]
-		low.take(u, r.Rating(int(u.Period)))
+		rt := r.Rating(int(u.Period))
+		low.take(u, rt)
+		if u.Flags&OutsideRating != 0 && rt != nil {
+			if lo, _ := rt.Range(); u.Effective < lo {
+				res.BelowTable.take(u)
+			} else {
+				res.AboveTable.take(u)
+			}
+		}
 		if i > 0 && u.Time-res.Units[i-1].Time > maxGap {
 			u.Flags |= Gap
 		}
@@ -545,8 +605,12 @@ func (res *Result) summarize(c *counter) {
 		}
 	}
 	say(c.flags[bit(NoRating)], "has no rating in force: no discharge", "have no rating in force: no discharge")
-	say(c.flags[bit(OutsideRating)], "is outside the rating table: no discharge (the rating does not allow extrapolation)",
-		"are outside the rating table: no discharge (the rating does not allow extrapolation)")
+	L := res.UnitSystem.Length()
+	for _, w := range []string{res.BelowTable.warn(n, "below the lowest row", L, res.Zone), res.AboveTable.warn(n, "above the top row", L, res.Zone)} {
+		if w != "" {
+			res.Warnings = append(res.Warnings, w)
+		}
+	}
 	say(c.flags[bit(Extrapolated)], "is outside the rating table: discharge extrapolated, as the rating asks",
 		"are outside the rating table: discharge extrapolated, as the rating asks")
 	say(c.flags[bit(AboveGaugings)], "is above the highest gauging of its rating", "are above the highest gauging of their rating")

@@ -481,7 +481,7 @@ func TestDailyExtremesAtMidnight(t *testing.T) {
 
 // TestCountWords: the record's count warnings read right for one and for
 // more: "1 gap longer than 2h is", "2 gaps longer than 2h are", "1 of 3
-// readings is outside", on the rating Q = 2·h from 0 to 10 m.
+// readings lies above", on the rating Q = 2·h from 0 to 10 m.
 func TestCountWords(t *testing.T) {
 	r := rater(t, gauged.History{Periods: []gauged.Period{{Rating: linear("r", 2)}}})
 	for _, tc := range []struct {
@@ -491,8 +491,8 @@ func TestCountWords(t *testing.T) {
 	}{
 		{"one gap", stages(0, 1, 1, 1, 5, 1), "1 gap longer than 2h is not bridged (the longest 4h, from 2024-01-01T01:00:00Z)"},
 		{"two gaps", stages(0, 1, 3, 1, 6, 1), "2 gaps longer than 2h are not bridged (the longest 3h, from 2024-01-01T00:00:00Z)"},
-		{"one reading outside", stages(0, 1, 1, 11, 2, 1), "1 of 3 readings is outside the rating table: no discharge"},
-		{"two readings outside", stages(0, 12, 1, 11, 2, 1), "2 of 3 readings are outside the rating table: no discharge"},
+		{"one reading above", stages(0, 1, 1, 11, 2, 1), "1 of 3 readings lies above the top row of its rating table: gauge height (shift applied) 11 m at"},
+		{"two readings above", stages(0, 12, 1, 11, 2, 1), "2 of 3 readings lie above the top row of their rating table: gauge heights (shifts applied) 11 to 12 m, from"},
 		{"one reading far below", stages(0, 1, 1, -9999, 2, 1), "1 reading lies below the lowest row of its rating table"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
@@ -711,5 +711,54 @@ func TestDailyExtremesAtMidnightBreak(t *testing.T) {
 				t.Errorf("%s: day %d: min %v at %v, max %v at %v, mean %v; want %+v", tc.name, i+1, d.Min, d.MinTime, d.Max, d.MaxTime, d.Mean, w)
 			}
 		}
+	}
+}
+
+// TestOutsideTableSides: readings with no discharge outside their rating
+// table are counted apart below its lowest row and above its top row, each
+// with the span of their gauge heights (shifts applied) and of their
+// times, and pointed to the option that rates them. Table 0.5 to 3 m,
+// zero flow 0.2 m; a shift of +0.1 m from 00:00 to 03:00 in a second case.
+func TestOutsideTableSides(t *testing.T) {
+	rt := &gauged.RatingTable{Name: "r", Points: []gauged.RatingPoint{{Stage: 0.5, Discharge: 1}, {Stage: 3, Discharge: 30}},
+		HasZeroFlow: true, ZeroFlow: 0.2}
+	for _, tc := range []struct {
+		name         string
+		shifts       []gauged.ShiftDiagram
+		st           *Stages
+		below, above string // the warnings ("" none)
+		belowN       int
+		aboveN       int
+		highest      float64 // the highest recorded stage above the table
+		highestAt    float64 // its time, hours
+	}{
+		{"both sides", nil, stages(0, 0.3, 1, 0.45, 2, 1, 3, 3.2, 4, 3.6, 5, 3.1, 6, 1),
+			"2 of 7 readings lie below the lowest row of their rating table: gauge heights (shifts applied) 0.3 to 0.45 m, from 2024-01-01T00:00:00Z to 2024-01-01T01:00:00Z; no discharge (the rating does not allow extrapolation: --extrapolate rates them)",
+			"3 of 7 readings lie above the top row of their rating table: gauge heights (shifts applied) 3.1 to 3.6 m, from 2024-01-01T03:00:00Z to 2024-01-01T05:00:00Z; no discharge (the rating does not allow extrapolation: --extrapolate rates them)",
+			2, 3, 3.6, 4},
+		{"one above, shifted", []gauged.ShiftDiagram{{Time: time.Unix(at(0), 0), Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0.1}}}},
+			stages(0, 1, 1, 2.95, 2, 1), "",
+			"1 of 3 readings lies above the top row of its rating table: gauge height (shift applied) 3.05 m at 2024-01-01T01:00:00Z; no discharge (the rating does not allow extrapolation: --extrapolate rates them)",
+			0, 1, 2.95, 1},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			res := compute(t, tc.st, rater(t, gauged.History{Periods: []gauged.Period{{Rating: rt}}, Shifts: tc.shifts}), Options{})
+			for _, c := range []struct{ want, key string }{{tc.below, "below the lowest row"}, {tc.above, "above the top row"}} {
+				i := slices.IndexFunc(res.Warnings, func(w string) bool { return strings.Contains(w, c.key) })
+				switch {
+				case c.want == "" && i >= 0:
+					t.Errorf("unexpected warning %q", res.Warnings[i])
+				case c.want != "" && (i < 0 || res.Warnings[i] != c.want):
+					t.Errorf("warnings %q, want %q", res.Warnings, c.want)
+				}
+			}
+			if slices.ContainsFunc(res.Warnings, func(w string) bool { return strings.Contains(w, "outside the rating table") }) {
+				t.Errorf("warnings %q lump both sides", res.Warnings)
+			}
+			if res.BelowTable.Readings != tc.belowN || res.AboveTable.Readings != tc.aboveN ||
+				tc.aboveN > 0 && (res.AboveTable.HighestStage != tc.highest || res.AboveTable.HighestAt != at(tc.highestAt)) {
+				t.Errorf("below %+v, above %+v", res.BelowTable, res.AboveTable)
+			}
+		})
 	}
 }
