@@ -680,8 +680,33 @@ func WriteRecordSummary(w io.Writer, res *record.Result, path string) error {
 		}
 	}
 	if !math.IsNaN(peak.Max) {
-		fmt.Fprintf(bw, "  greatest unit discharge %s %s at %s\n", sig(peak.Max, 4), res.UnitSystem.Discharge(), peak.MaxTime.In(res.Zone).Format(RecordTimeLayout))
+		fmt.Fprintf(bw, "  greatest unit discharge %s %s at %s", sig(peak.Max, 4), res.UnitSystem.Discharge(), peak.MaxTime.In(res.Zone).Format(RecordTimeLayout))
+		writeUnratedCrest(bw, res)
+		fmt.Fprintln(bw)
 	}
 	fmt.Fprintln(bw, "provisional: "+record.ProvisionalNote)
 	return endSummary(bw, res.Warnings)
+}
+
+// writeUnratedCrest ends the summary's line of the greatest unit discharge
+// when the record's highest stage lies above its rating table, with no
+// discharge: the greatest discharge is then not the peak, and a second
+// line names the highest stage, its time and the readings above the table.
+func writeUnratedCrest(bw *bufio.Writer, res *record.Result) {
+	above := res.AboveTable
+	if above.Readings == 0 {
+		return
+	}
+	for _, u := range res.Units {
+		if u.Stage > above.HighestStage {
+			return // a higher stage has a discharge
+		}
+	}
+	fmt.Fprintf(bw, ", not the peak:\n  the highest stage, %s %s at %s, ", appendLength(nil, above.HighestStage), res.UnitSystem.Length(),
+		time.Unix(above.HighestAt, 0).In(res.Zone).Format(RecordTimeLayout))
+	if above.Readings == 1 {
+		bw.WriteString("lies above the rating table, with no discharge (--extrapolate rates it)")
+		return
+	}
+	fmt.Fprintf(bw, "is one of %d readings above the rating table, with no discharge (--extrapolate rates them)", above.Readings)
 }

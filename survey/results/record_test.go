@@ -192,3 +192,56 @@ func BenchmarkRecordCSV(b *testing.B) {
 		}
 	}
 }
+
+// TestRecordSummaryUnratedCrest: when the highest stage of a record lies
+// above its rating table, with no discharge, the console summary does not
+// pass the greatest rated discharge off as the peak: it names the highest
+// stage, its time and how many readings above the table have none. Rating
+// rows 0.4 to 3 m; the crest at 3.3 m, one more reading at 3.1 m above
+// the table; one reading above in a second case. Readings hourly. The
+// greatest rated, at 2.9 m, by hand log-linear in h − e between the rows
+// of 1.6 and 3 m (Kennedy 1984): 17.5·(2.7/1.4)^b, b = ln(60/17.5)/ln 2,
+// 56.24 m³/s.
+func TestRecordSummaryUnratedCrest(t *testing.T) {
+	rt := &gauged.RatingTable{Name: "r", HasZeroFlow: true, ZeroFlow: 0.2,
+		Points: []gauged.RatingPoint{{Stage: 0.4, Discharge: 0.6}, {Stage: 0.9, Discharge: 5.2}, {Stage: 1.6, Discharge: 17.5}, {Stage: 3, Discharge: 60}}}
+	r, err := gauged.History{Periods: []gauged.Period{{Rating: rt}}}.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	start := time.Date(2024, 1, 1, 0, 0, 0, 0, time.UTC).Unix()
+	for _, tc := range []struct {
+		name   string
+		stages []float64
+		want   string // the lines after "wrote …"
+	}{
+		{"two above", []float64{1, 2.9, 3.3, 3.1, 2.5},
+			"  greatest unit discharge 56.24 m3/s at 2024-01-01T01:00:00Z, not the peak:\n" +
+				"  the highest stage, 3.3 m at 2024-01-01T02:00:00Z, is one of 2 readings above the rating table, with no discharge (--extrapolate rates them)\n"},
+		{"one above", []float64{1, 2.9, 3.3, 2.5},
+			"  greatest unit discharge 56.24 m3/s at 2024-01-01T01:00:00Z, not the peak:\n" +
+				"  the highest stage, 3.3 m at 2024-01-01T02:00:00Z, lies above the rating table, with no discharge (--extrapolate rates it)\n"},
+		{"crest rated", []float64{1, 2.9, 2.5},
+			"  greatest unit discharge 56.24 m3/s at 2024-01-01T01:00:00Z\n"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			st := &record.Stages{Name: "test"}
+			for i, h := range tc.stages {
+				st.Time = append(st.Time, start+int64(i)*3600)
+				st.Stage = append(st.Stage, h)
+			}
+			res, err := record.Compute(st, r, record.Options{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var b bytes.Buffer
+			if err := results.WriteRecordSummary(&b, res, "out.json"); err != nil {
+				t.Fatal(err)
+			}
+			_, rest, _ := strings.Cut(b.String(), "\n")
+			if got, _, _ := strings.Cut(rest, "provisional:"); got != tc.want {
+				t.Errorf("summary\n%s\nwant\n%s", got, tc.want)
+			}
+		})
+	}
+}
