@@ -127,7 +127,10 @@ func tableRatingPlot(in RatingFigures) RatingPlot {
 		rp.Caution = DefaultBackwaterCaution
 	}
 	if !math.IsNaN(in.ZeroFlow) {
+		// A table with a gauge height of zero flow is read
+		// log-linearly in (h − e) between its rows: drawn so too.
 		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
+		rp.Hydraulic.Points = readAsRated(cleanCurve(rp.Hydraulic), rp.ZeroFlow, true)
 	}
 	datum := 0.0
 	if t.GaugeHeights {
