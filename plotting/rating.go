@@ -27,6 +27,11 @@ type RatingPoint struct {
 	// by (above the highest or below the lowest gauging); segments
 	// touching such a point are drawn dashed.
 	Extrapolated bool
+	// foot marks a point read between a dry row and the first row with
+	// flow (readAsRated): on the log–log panel the power law it follows
+	// is the line of the rows above carried down towards e, and is left
+	// out there rather than stretch the axes by decades.
+	foot bool
 }
 
 // Curve is a labelled rating curve. Points may come in any order; they
@@ -477,7 +482,9 @@ func logExtent(hyd, fit []RatingPoint, band []BandPoint, gs []Gauging, e float64
 	}
 	for _, c := range [][]RatingPoint{hyd, fit} {
 		for _, p := range c {
-			add(p.Discharge, p.Stage-e)
+			if !p.foot {
+				add(p.Discharge, p.Stage-e)
+			}
 		}
 	}
 	for _, g := range gs {
@@ -525,7 +532,7 @@ func panelXYs(pts []RatingPoint, e float64, logv bool) plotter.XYs {
 		y := q.Stage
 		if logv {
 			y -= e
-			if !(y > 0 && q.Discharge > 0) {
+			if !(y > 0 && q.Discharge > 0) || q.foot {
 				continue
 			}
 		}
@@ -567,6 +574,9 @@ func addCurve(p *plot.Plot, pts []RatingPoint, label string, c color.Color, widt
 			if !(y > 0 && q.Discharge > 0) {
 				continue
 			}
+		}
+		if logv && q.foot {
+			continue
 		}
 		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
 		ext = append(ext, q.Extrapolated)
@@ -909,7 +919,9 @@ const denseSteps = 16
 // (gauged.TableRating.Discharge, the reading of the record, shifts,
 // compare and fit) at denseSteps − 1 stages between them, so that the
 // line drawn follows the power law between the rows rather than the
-// chord. A point between two rows is extrapolated when either row is.
+// chord. A point between two rows is extrapolated when either row is;
+// one between a dry row and the first with flow is drawn on the linear
+// panel only (see RatingPoint.foot).
 // Without e, or when the points do not make a table the rating reads
 // (gauged.RatingTable.Validate), the points are returned as they are.
 func readAsRated(pts []RatingPoint, e float64, hasE bool) []RatingPoint {
@@ -938,7 +950,7 @@ func readAsRated(pts []RatingPoint, e float64, hasE bool) []RatingPoint {
 			h := p.Stage + (next.Stage-p.Stage)*float64(k)/denseSteps
 			q, _ := tr.Discharge(h)
 			if finite(q) {
-				out = append(out, RatingPoint{Stage: h, Discharge: q, Extrapolated: p.Extrapolated || next.Extrapolated})
+				out = append(out, RatingPoint{Stage: h, Discharge: q, Extrapolated: p.Extrapolated || next.Extrapolated, foot: p.Discharge == 0})
 			}
 		}
 	}

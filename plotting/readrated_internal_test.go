@@ -159,3 +159,32 @@ func gaugedPoints(pts []RatingPoint) []gauged.RatingPoint {
 	}
 	return out
 }
+
+// TestDrawnFootAsRead: below the first row with flow of the excerpt of
+// USGS 01541303 (testdata/reference, offset 2.0 ft), down to a dry row at
+// the offset, the table is read by the power law of the rows above
+// carried down (gauged.TableRating.Discharge); the linear panel's line
+// follows it there, while the log–log panel, on which that law is the
+// same straight line, starts at the first row with flow.
+func TestDrawnFootAsRead(t *testing.T) {
+	rows := readReferenceRating(t, "rating-01541303-excerpt.csv")
+	pts := append([]RatingPoint{{Stage: 2.0, Discharge: 0}}, rows[0], rows[len(rows)-1])
+	tr, err := gauged.RatingTable{Points: gaugedPoints(pts), HasZeroFlow: true, ZeroFlow: 2.0}.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab := rating.Table{Units: rating.US, Slope: math.NaN()}
+	for _, p := range pts {
+		tab.Rows = append(tab.Rows, rating.Row{Stage: p.Stage, Discharge: p.Discharge})
+	}
+	curve := cleanCurve(tableRatingPlot(RatingFigures{Table: tab, ZeroFlow: 2.0}).Hydraulic)
+	want, _ := tr.Discharge(2.25)
+	if got := lineAt(panelPoints(curve), 2.25); math.Abs(got-want) > 0.01*want {
+		t.Errorf("linear panel at 2.25 ft: %.3f ft³/s, the table reads %.3f", got, want)
+	}
+	for _, xy := range panelXYs(curve, 2.0, true) {
+		if xy.X < rows[0].Discharge {
+			t.Errorf("log–log panel draws %g ft³/s at h − e = %g, below the first row with flow", xy.X, xy.Y)
+		}
+	}
+}
