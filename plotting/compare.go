@@ -35,12 +35,18 @@ func DrawRatingComparison(c *gauged.RatingComparison, site, base string, size Si
 	return set.figs, set.warnings, nil
 }
 
+// tableXY is the line of a rating table compared: discharge against
+// stage at its rows and, where the table is read log-linearly (it has a
+// gauge height of zero flow), between them as it is read (readAsRated).
 func tableXY(t gauged.RatingTable) plotter.XYs {
-	xy := make(plotter.XYs, 0, len(t.Points))
+	c := Curve{Points: make([]RatingPoint, 0, len(t.Points))}
 	for _, p := range t.Points {
-		if finite(p.Stage, p.Discharge) {
-			xy = append(xy, plotter.XY{X: p.Discharge, Y: p.Stage})
-		}
+		c.Points = append(c.Points, RatingPoint{Stage: p.Stage, Discharge: p.Discharge})
+	}
+	pts := readAsRated(cleanCurve(c), t.ZeroFlow, t.HasZeroFlow)
+	xy := make(plotter.XYs, 0, len(pts))
+	for _, p := range pts {
+		xy = append(xy, plotter.XY{X: p.Discharge, Y: p.Stage})
 	}
 	return xy
 }

@@ -36,6 +36,12 @@ type RatingFigures struct {
 	Geometry subdivide.Options
 	// Size is the pixel size (zero value: the default).
 	Size Size
+	// Fit are the rows of Table as a rating fit wrote them, with what
+	// each rests on and the bounds of its bands (survey.FitRowsFromTable;
+	// nil for a table that is not a fit's). When given, the table is
+	// drawn as the fit draws its own: dashed where extrapolated, the
+	// conveyance-slope extension apart, the bands shaded.
+	Fit []gauged.ControlRow
 }
 
 // figureSet collects drawn figures and their warnings.
@@ -126,8 +132,16 @@ func tableRatingPlot(in RatingFigures) RatingPlot {
 	if t.Kind == rating.KindBackwater {
 		rp.Caution = DefaultBackwaterCaution
 	}
+	if len(in.Fit) > 0 {
+		fitTableRowsPlot(&rp, in.Fit)
+	}
 	if !math.IsNaN(in.ZeroFlow) {
+		// A table with a gauge height of zero flow is read
+		// log-linearly in (h − e) between its rows: drawn so too.
 		rp.ZeroFlow, rp.HasZeroFlow = in.ZeroFlow, true
+		for _, c := range []*Curve{&rp.Hydraulic, &rp.Fitted, &rp.Extension} {
+			c.Points = readAsRated(cleanCurve(*c), rp.ZeroFlow, true)
+		}
 	}
 	datum := 0.0
 	if t.GaugeHeights {
@@ -137,6 +151,25 @@ func tableRatingPlot(in RatingFigures) RatingPlot {
 	bankfull, hasBankfull := in.Ground.Section.Bankfull()
 	rp.Bankfull, rp.HasBankfull = bankfull-datum, hasBankfull
 	return rp
+}
+
+// fitTableRowsPlot lays out a fit's table redrawn (rows, as
+// survey.FitRowsFromTable reads them) as the fit's own figure draws it
+// (fitRowsPlot), in place of the plain curve: the bands named by what
+// they bound, which holds for either method's (the band of the relation;
+// of one discharge, the relation and the scatter about it), and the
+// gauge height of zero flow of the log–log panel, unless given, where
+// the fitted rows start to flow.
+func fitTableRowsPlot(rp *RatingPlot, rows []gauged.ControlRow) {
+	fitRowsPlot(rp, rows, rp.Hydraulic.Label)
+	rp.Hydraulic, rp.PadEnds = Curve{}, true
+	rp.BandLabel, rp.TotalBandLabel = "95 % band of the relation", "95 % band of one discharge"
+	if len(rp.Band)+len(rp.TotalBand) > 0 {
+		rp.Notes = append(rp.Notes, "bands: the table's parametric_lower_95 to parametric_upper_95 (the fitted relation) and total_lower_95 to total_upper_95 (one discharge: the relation and the scatter about it)")
+	}
+	if e, ok := zeroFlowOf(cleanCurve(rp.Fitted)); ok {
+		rp.ZeroFlow, rp.HasZeroFlow = e, true
+	}
 }
 
 // TableLabel names a rating table's curve by what the table is: its Kind
@@ -249,12 +282,34 @@ func fitTablePlot(rp *RatingPlot, rep *gauged.Report, t *gauged.ControlTable) {
 		fit.Label = "fitted controls (posterior mode)"
 		rp.BandLabel, rp.TotalBandLabel = "95 % parametric band (the relation)", "95 % total band (relation and remnant error)"
 	}
+	fitRowsPlot(rp, t.Rows, fit.Label)
+	if rep.Prior != nil {
+		pr := Curve{Label: "prior of the controls, from the survey (before the gaugings)"}
+		for _, r := range t.Rows {
+			pr.Points = append(pr.Points, RatingPoint{Stage: r.Stage, Discharge: rep.Prior.Discharge(r.Stage)})
+		}
+		rp.Prior = pr
+	}
+	if t.AboveNote != "" {
+		rp.Notes = append(rp.Notes, t.AboveNote)
+	}
+	if t.BandsWithheld {
+		rp.Notes = append(rp.Notes, "bands withheld: the chains disagree (R̂ above the limit)")
+	}
+}
+
+// fitRowsPlot lays out the rows of a fit's table: the fitted curve
+// (labelled fitLabel, dashed where extrapolated), the hydraulic extension
+// (conveyance-slope rows, from the row below them) and both bands at
+// every row that has them.
+func fitRowsPlot(rp *RatingPlot, rows []gauged.ControlRow, fitLabel string) {
+	fit := Curve{Label: fitLabel}
 	ext := Curve{Label: "hydraulic extension (conveyance-slope)"}
-	for i, r := range t.Rows {
+	for i, r := range rows {
 		pt := RatingPoint{Stage: r.Stage, Discharge: r.Discharge, Extrapolated: r.Extrapolated()}
 		if r.Basis == gauged.ConveyanceSlopeAbove {
 			if len(ext.Points) == 0 && i > 0 {
-				prev := t.Rows[i-1]
+				prev := rows[i-1]
 				ext.Points = append(ext.Points, RatingPoint{Stage: prev.Stage, Discharge: prev.Discharge})
 			}
 			ext.Points = append(ext.Points, pt)
@@ -269,19 +324,6 @@ func fitTablePlot(rp *RatingPlot, rep *gauged.Report, t *gauged.ControlTable) {
 		}
 	}
 	rp.Fitted, rp.Extension = fit, ext
-	if rep.Prior != nil {
-		pr := Curve{Label: "prior of the controls, from the survey (before the gaugings)"}
-		for _, r := range t.Rows {
-			pr.Points = append(pr.Points, RatingPoint{Stage: r.Stage, Discharge: rep.Prior.Discharge(r.Stage)})
-		}
-		rp.Prior = pr
-	}
-	if t.AboveNote != "" {
-		rp.Notes = append(rp.Notes, t.AboveNote)
-	}
-	if t.BandsWithheld {
-		rp.Notes = append(rp.Notes, "bands withheld: the chains disagree (R̂ above the limit)")
-	}
 }
 
 // DrawReach draws the reach profile and the sections overlaid of a

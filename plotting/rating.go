@@ -14,6 +14,7 @@ import (
 	"gonum.org/v1/plot/vg/draw"
 
 	"wetline/rating"
+	"wetline/rating/gauged"
 )
 
 // RatingPoint is one point of a rating curve.
@@ -26,6 +27,11 @@ type RatingPoint struct {
 	// by (above the highest or below the lowest gauging); segments
 	// touching such a point are drawn dashed.
 	Extrapolated bool
+	// foot marks a point read between a dry row and the first row with
+	// flow (readAsRated): on the log–log panel the power law it follows
+	// is the line of the rows above carried down towards e, and is left
+	// out there rather than stretch the axes by decades.
+	foot bool
 }
 
 // Curve is a labelled rating curve. Points may come in any order; they
@@ -476,7 +482,9 @@ func logExtent(hyd, fit []RatingPoint, band []BandPoint, gs []Gauging, e float64
 	}
 	for _, c := range [][]RatingPoint{hyd, fit} {
 		for _, p := range c {
-			add(p.Discharge, p.Stage-e)
+			if !p.foot {
+				add(p.Discharge, p.Stage-e)
+			}
 		}
 	}
 	for _, g := range gs {
@@ -524,7 +532,7 @@ func panelXYs(pts []RatingPoint, e float64, logv bool) plotter.XYs {
 		y := q.Stage
 		if logv {
 			y -= e
-			if !(y > 0 && q.Discharge > 0) {
+			if !(y > 0 && q.Discharge > 0) || q.foot {
 				continue
 			}
 		}
@@ -566,6 +574,9 @@ func addCurve(p *plot.Plot, pts []RatingPoint, label string, c color.Color, widt
 			if !(y > 0 && q.Discharge > 0) {
 				continue
 			}
+		}
+		if logv && q.foot {
+			continue
 		}
 		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
 		ext = append(ext, q.Extrapolated)
@@ -894,4 +905,54 @@ func (z zoneAbove) Plot(c draw.Canvas, p *plot.Plot) {
 	path.Line(vg.Point{X: c.Min.X, Y: c.Max.Y})
 	path.Close()
 	c.Fill(path)
+}
+
+// denseSteps is the number of pieces each interval between two rows of a
+// table read log-linearly is drawn in: enough that the chords of the
+// power law between the rows lie within a line's width of it.
+const denseSteps = 16
+
+// readAsRated returns the points of a rating table's curve (sorted by
+// stage, finite, as cleanCurve gives them) as the table is read when it
+// has a gauge height of zero flow e (hasE): between two rows read
+// log-linearly in (h − e), the discharges the compiled table gives
+// (gauged.TableRating.Discharge, the reading of the record, shifts,
+// compare and fit) at denseSteps − 1 stages between them, so that the
+// line drawn follows the power law between the rows rather than the
+// chord. A point between two rows is extrapolated when either row is;
+// one between a dry row and the first with flow is drawn on the linear
+// panel only (see RatingPoint.foot).
+// Without e, or when the points do not make a table the rating reads
+// (gauged.RatingTable.Validate), the points are returned as they are.
+func readAsRated(pts []RatingPoint, e float64, hasE bool) []RatingPoint {
+	if !hasE || !finite(e) || len(pts) < 2 {
+		return pts
+	}
+	t := gauged.RatingTable{Points: make([]gauged.RatingPoint, len(pts)), HasZeroFlow: true, ZeroFlow: e}
+	for i, p := range pts {
+		t.Points[i] = gauged.RatingPoint{Stage: p.Stage, Discharge: p.Discharge}
+	}
+	tr, err := t.Compile()
+	if err != nil {
+		return pts
+	}
+	out := make([]RatingPoint, 0, len(pts))
+	for i, p := range pts {
+		out = append(out, p)
+		if i+1 == len(pts) {
+			break
+		}
+		next := pts[i+1]
+		if !(next.Discharge > 0 && next.Stage > e) {
+			continue // dry: zero at both rows
+		}
+		for k := 1; k < denseSteps; k++ {
+			h := p.Stage + (next.Stage-p.Stage)*float64(k)/denseSteps
+			q, _ := tr.Discharge(h)
+			if finite(q) {
+				out = append(out, RatingPoint{Stage: h, Discharge: q, Extrapolated: p.Extrapolated || next.Extrapolated, foot: p.Discharge == 0})
+			}
+		}
+	}
+	return out
 }

@@ -215,8 +215,10 @@ const (
 // its first row with a positive depth, with lowest, the lowest ground
 // elevation of the section drawn with it (length unit). It returns a
 // warning naming both, of a datum mismatch, when they differ by more than
-// BottomMismatchSI or BottomMismatchUS; "" when they agree, when no row
-// has a positive depth (no depth column) or when lowest is not finite.
+// BottomMismatchSI or BottomMismatchUS; "" when they agree or when
+// lowest is not finite. When no row has a positive depth (a table with no
+// depth column: a fit's, or any stage–discharge table) there is no bottom
+// to compare, and the warning says that the check cannot be made.
 // section names the survey in the warning.
 func (t Table) BottomMismatch(lowest float64, section string) string {
 	if !finiteAll(lowest) {
@@ -242,7 +244,8 @@ func (t Table) BottomMismatch(lowest float64, section string) string {
 		}
 		return ""
 	}
-	return ""
+	return fmt.Sprintf("the table has no depth column, so its datum cannot be checked against the lowest point of %s (%.3f %s): check that the table is the section's and, for gauge heights, the elevation of the gauge's zero",
+		section, lowest, t.Units.Length())
 }
 
 // Extremes returns the rows of the lowest and the highest stage (the

@@ -149,8 +149,9 @@ func TestStageListOrdered(t *testing.T) {
 
 // TestBottomMismatch: a table read back with depths has its bottom at
 // stage − depth (+ datum for gauge heights); more than 0.5 m (1.5 ft) from
-// the section's lowest point is warned of, naming both elevations. The
-// table's first wet row is stage 1.4 with depth 0.4: bottom 1.0 (by hand).
+// the section's lowest point is warned of, naming both elevations; a
+// table without depths is said to leave the check unmade. The table's
+// first wet row is stage 1.4 with depth 0.4: bottom 1.0 (by hand).
 func TestBottomMismatch(t *testing.T) {
 	nan := math.NaN()
 	rows := []rating.Row{{Stage: 1, Depth: 0}, {Stage: 1.4, Depth: 0.4}, {Stage: 2, Depth: 1}}
@@ -171,7 +172,7 @@ func TestBottomMismatch(t *testing.T) {
 		{"wrong gauge zero", rating.SI, true, 99, rows, 101, "elevation 100.000 m (stage − depth + datum), lies 1.000 m below"},
 		{"feet within 1.5", rating.US, false, 0, rows, 2.2, ""},
 		{"feet beyond 1.5", rating.US, false, 0, rows, 2.6, "lies 1.600 ft below the lowest point of xs.csv (2.600 ft), more than 1.5 ft"},
-		{"no depth column", rating.SI, false, 0, []rating.Row{{Stage: 1, Depth: nan}, {Stage: 2, Depth: nan}}, 50, ""},
+		{"no depth column", rating.SI, false, 0, []rating.Row{{Stage: 1, Depth: nan}, {Stage: 2, Depth: nan}}, 50, "the table has no depth column, so its datum cannot be checked against the lowest point of xs.csv (50.000 m)"},
 		{"no section bottom", rating.SI, false, 0, rows, nan, ""},
 	} {
 		tab := rating.Table{Units: tt.units, GaugeHeights: tt.gauge, Datum: tt.datum, Rows: tt.rows}

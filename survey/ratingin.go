@@ -172,7 +172,7 @@ func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rati
 	if err := cells.errs.err(); err != nil {
 		return out, err
 	}
-	return finishRatingTable(t, out, rows, bottomFromDepth)
+	return finishRatingTable(t, out, rows)
 }
 
 // ratingColumns finds a rating table's stage and discharge columns and
@@ -362,10 +362,12 @@ func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
 }
 
 // finishRatingTable completes a rating table read without error: its
-// rows (ErrEmpty when none), uniform slope, kind, and the warnings of a
-// table with no depth column and of a discharge that falls (rows gives
-// each row's place in the file).
-func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth bool) (rating.Table, error) {
+// rows (ErrEmpty when none), uniform slope, kind, and the warning of a
+// discharge that falls (rows gives each row's place in the file). A
+// table with no depth column is not warned of here: nothing read from it
+// rests on its bottom but the check of its datum against a section
+// (rating.Table.BottomMismatch), which says so itself.
+func finishRatingTable(t *Table, out rating.Table, rows []int) (rating.Table, error) {
 	if len(out.Rows) == 0 {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: ErrEmpty}
 	}
@@ -377,10 +379,6 @@ func finishRatingTable(t *Table, out rating.Table, rows []int, bottomFromDepth b
 		return slices.Contains(r.Flags, reach.FlagUnsettled) || slices.Contains(r.Flags, reach.FlagCriticalStage)
 	}):
 		out.Kind = KindBackwater
-	}
-	if !bottomFromDepth {
-		out.Warnings = append(out.Warnings, fmt.Sprintf("%s: no depth column: the lowest stage is taken as the bottom of the section",
-			where(t, t.HeaderRow)))
 	}
 	if w := fallingDischarge(t, out.Rows, rows); w != "" {
 		out.Warnings = append(out.Warnings, w)

@@ -252,8 +252,9 @@ func TestRatingFallingDischarge(t *testing.T) {
 	}
 }
 
-// The warnings of a rating table name its sheet and the row: the table
-// with no depth at its header, the falling discharge at its row.
+// The warnings of a rating table name its sheet and the row: the falling
+// discharge at its row. A table with no depth column is not warned of:
+// nothing read from it rests on a bottom.
 func TestRatingWarningsInSheet(t *testing.T) {
 	tab := mustCSV(t, "stage,discharge\n1,0\n2,3\n3,2\n")
 	tab.File, tab.Sheet = "field.xlsx", "XS-2"
@@ -262,10 +263,13 @@ func TestRatingWarningsInSheet(t *testing.T) {
 		t.Fatal(err)
 	}
 	got := strings.Join(r.Warnings, "\n")
-	for _, want := range []string{"field.xlsx['XS-2'] row 1: no depth column", "field.xlsx['XS-2'] row 4: discharge falls as stage rises at 1 row, the first from 3 at 2 (row 3)"} {
+	for _, want := range []string{"field.xlsx['XS-2'] row 4: discharge falls as stage rises at 1 row, the first from 3 at 2 (row 3)"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("warnings %q, want %q", got, want)
 		}
+	}
+	if strings.Contains(got, "depth") || len(r.Warnings) != 1 {
+		t.Errorf("warnings %q, want only the falling discharge", got)
 	}
 }
 

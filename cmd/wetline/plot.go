@@ -111,6 +111,10 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if err != nil {
 		return err
 	}
+	fit, err := survey.FitRowsFromTable(src.Table, t)
+	if err != nil {
+		return err
+	}
 	if fs.Changed("datum") {
 		t.GaugeHeights, t.Datum = true, f.datum
 	}
@@ -123,7 +127,7 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if n := plotting.FlagNote(plotting.FlagMarks(t), t.Units); n != "" {
 		warnings = append(warnings, survey.Position(path, src.Table.Sheet)+": "+n)
 	}
-	in := plotting.RatingFigures{Site: figureSite(src.Site, p, f.site), Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size,
+	in := plotting.RatingFigures{Site: figureSite(src.Site, p, f.site), Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size, Fit: fit,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if src.Summary {
 		in.Subtitle += ", sheet " + src.Table.Sheet
