@@ -24,7 +24,8 @@ const (
 
 // BuiltPrefix begins the comment line the shape command writes above a
 // built section ("# Built section rectangle:width=5, lengths in m; ...").
-// A CSV file with such a line has Meta[MetaBuilt] set to the rest of it.
+// A CSV file with such a line, or a sheet with such a comment row above
+// its header, has Meta[MetaBuilt] set to the rest of it.
 const (
 	BuiltPrefix = "Built section "
 	MetaBuilt   = "built"
@@ -61,22 +62,25 @@ func csvMeta(data []byte) map[string]string {
 		if !strings.HasPrefix(line, "#") {
 			break // the header: key lines stand above it
 		}
-		if rest, built := strings.CutPrefix(strings.TrimSpace(strings.TrimPrefix(line, "#")), BuiltPrefix); built {
-			if meta == nil {
-				meta = map[string]string{}
-			}
-			meta[MetaBuilt] = rest
-			continue
-		}
 		meta = addMetaLine(meta, line)
 	}
 	return meta
 }
 
 // addMetaLine adds a "# key: value" comment line (trimmed, starting with
-// '#') to meta when its key is one of MetaKeys, making the map if nil, and
-// returns meta; other lines leave it as it is.
+// '#') to meta when its key is one of MetaKeys, or the line the shape
+// command writes (BuiltPrefix, as MetaBuilt), making the map if nil, and
+// returns meta; other lines leave it as it is. A sheet's comment row
+// comes here as a CSV file's line does, so that a built section saved
+// as a workbook is still known as built.
 func addMetaLine(meta map[string]string, line string) map[string]string {
+	if rest, built := strings.CutPrefix(strings.TrimSpace(strings.TrimPrefix(line, "#")), BuiltPrefix); built {
+		if meta == nil {
+			meta = map[string]string{}
+		}
+		meta[MetaBuilt] = rest
+		return meta
+	}
 	k, v, ok := strings.Cut(strings.TrimPrefix(line, "#"), ":")
 	if !ok {
 		return meta

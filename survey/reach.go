@@ -232,6 +232,7 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		return nil, errs.err()
 	}
 	r.Surveys = make([]Survey, len(r.Rows))
+	gapped := 0
 	for i, row := range r.Rows {
 		sv, err := ReadSection(row.Path, row.Sheet, opt)
 		if err != nil {
@@ -239,9 +240,20 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		}
 		sv.Section.Name = row.ID
 		r.Surveys[i] = sv
-		for _, w := range sv.Warnings {
+		if len(sv.Gaps) > 0 {
+			gapped++
+		}
+	}
+	for i, row := range r.Rows {
+		for _, w := range r.Surveys[i].Warnings {
+			if gapped > 1 && slices.ContainsFunc(r.Surveys[i].Gaps, func(g StationGap) bool { return g.Warning == w }) {
+				continue // rolled up below
+			}
 			r.Warnings = append(r.Warnings, "section "+row.ID+": "+w)
 		}
+	}
+	if gapped > 1 {
+		r.Warnings = append(r.Warnings, r.gapsWarning(gapped))
 	}
 	r.Warnings = append(r.Warnings, r.sameSurveys()...)
 	ids := make([]string, len(r.Rows))
@@ -253,6 +265,35 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 		r.Site = surveysSite(r.Surveys)
 	}
 	return r, nil
+}
+
+// RolledSections is how many sections a warning rolled up across the
+// sections of a reach names before it counts the rest.
+const RolledSections = 3
+
+// gapsWarning rolls up the station-gap warnings of the n sections of the
+// reach whose surveys have gaps over MaxGapFraction of their width into
+// one line: the count of sections, and the first RolledSections of them
+// with their number of gaps, the largest and the row after the first.
+func (r *Reach) gapsWarning(n int) string {
+	var named []string
+	for i, sv := range r.Surveys {
+		if len(sv.Gaps) == 0 {
+			continue
+		}
+		if len(named) == RolledSections {
+			named = append(named, fmt.Sprintf("%d more", n-RolledSections))
+			break
+		}
+		largest := 0.0
+		for _, g := range sv.Gaps {
+			largest = math.Max(largest, g.To-g.From)
+		}
+		named = append(named, fmt.Sprintf("%s (%s, up to %s %s; %s)", r.Rows[i].ID, rating.Counted(len(sv.Gaps), "gap", "gaps"),
+			roundLength(largest), sv.Gaps[0].Unit, (&ParseError{File: sv.File, Sheet: sv.Sheet, Row: sv.Gaps[0].Row}).Position()))
+	}
+	return fmt.Sprintf("%d sections have gaps between consecutive stations over %.0f %% of the section width: %s: check for missing points "+
+		"(a section written by the shape command, its comment line kept, is not checked)", n, MaxGapFraction*100, rating.JoinAnd(named))
 }
 
 // sameSurveys returns a warning for every pair of sections whose surveys

@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -876,5 +877,77 @@ func TestReachOppositeLine(t *testing.T) {
 	}
 	if len(got) != 1 || !strings.HasPrefix(got[0], "section B:") {
 		t.Errorf("warnings %q: want one naming section B", r.Warnings)
+	}
+}
+
+// The station-gap warnings of a reach are rolled up into one line when
+// more than one section has them, naming the first RolledSections; a
+// section written by the shape command (its comment line kept) has none,
+// and one gapped section keeps its own lines.
+func TestReadReachGapsRolledUp(t *testing.T) {
+	// Each section is set i × 0.1 m lower, so that no two have the same
+	// ground points.
+	const (
+		gapped = "station,elevation,n\n0,6,0.03\n12,0,0.03\n22,0,0.03\n34,6,\n" // gaps 12, 10, 12 of 34 > 8.5
+		dense  = "station,elevation,n\n0,6,0.03\n4,4,0.03\n8,2,0.03\n12,0,0.03\n17,0,0.03\n22,0,0.03\n26,2,0.03\n30,4,0.03\n34,6,\n"
+		built  = "# " + BuiltPrefix + "trapezoid:bottom=10,left=2,right=2,height=6, lengths in m; invert at elevation 0.\n" + gapped
+	)
+	lowered := func(text string, by float64) string {
+		lines := strings.Split(text, "\n")
+		for j, l := range lines {
+			if f := strings.Split(l, ","); len(f) == 3 {
+				if z, err := strconv.ParseFloat(f[1], 64); err == nil {
+					f[1] = strconv.FormatFloat(z-by, 'f', 1, 64)
+					lines[j] = strings.Join(f, ",")
+				}
+			}
+		}
+		return strings.Join(lines, "\n")
+	}
+	for _, c := range []struct {
+		name    string
+		surveys []string
+		lines   int    // warnings naming a single gap
+		rolled  string // in the one rolled-up warning; "" for none
+		absent  string // in no warning
+	}{
+		{"one gapped section", []string{gapped, dense, built}, 3, "", "sections have gaps"},
+		{"five gapped sections", []string{gapped, gapped, built, gapped, gapped, gapped},
+			0, "5 sections have gaps between consecutive stations over 25 % of the section width: " +
+				"S0 (3 gaps, up to 12 m; s0.csv:3), S1 (3 gaps, up to 12 m; s1.csv:3), S3 (3 gaps, up to 12 m; s3.csv:3) and 2 more: check for missing points", "S2"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			files := map[string]string{}
+			table := "section,survey,distance\n"
+			for i, sv := range c.surveys {
+				files[fmt.Sprintf("s%d.csv", i)] = lowered(sv, 0.1*float64(i))
+				table += fmt.Sprintf("S%d,s%d.csv,%d\n", i, i, 100*i)
+			}
+			files["reach.csv"] = table
+			dir := reachFiles(t, files)
+			r, err := ReadReachWith(filepath.Join(dir, "reach.csv"), "", ReachOptions{Section: SectionOptions{IgnoreBankMarks: true}, MarksOptional: true})
+			if err != nil {
+				t.Fatal(err)
+			}
+			lines, rolled := 0, []string{}
+			for _, w := range r.Warnings {
+				if strings.Contains(w, "gap of") {
+					lines++
+				}
+				if strings.Contains(w, "sections have gaps") {
+					rolled = append(rolled, w)
+				}
+				if c.absent != "" && strings.Contains(w, c.absent) && strings.Contains(w, "gap") {
+					t.Errorf("warning %q names %s", w, c.absent)
+				}
+			}
+			all := strings.Join(r.Warnings, "\n")
+			if lines != c.lines {
+				t.Errorf("%d single-gap warnings, want %d:\n%s", lines, c.lines, all)
+			}
+			if c.rolled == "" && len(rolled) > 0 || c.rolled != "" && (len(rolled) != 1 || !strings.Contains(strings.ReplaceAll(rolled[0], dir+string(filepath.Separator), ""), c.rolled)) {
+				t.Errorf("rolled-up warnings %q, want one with %q", rolled, c.rolled)
+			}
+		})
 	}
 }

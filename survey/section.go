@@ -33,6 +33,9 @@ type Survey struct {
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Gaps holds each gap between consecutive stations over
+	// MaxGapFraction of the width, each also one of Warnings.
+	Gaps []StationGap
 	// Units is what the headers say of the unit system.
 	Units UnitNote
 	// Site is the site metadata read above the table.
@@ -45,6 +48,18 @@ type Survey struct {
 	// northings (zero for a survey by station): a fact of the input, for
 	// a report's inputs, not among the warnings.
 	ProjectionNote InputNote
+}
+
+// StationGap is a gap between two consecutive stations of a survey over
+// MaxGapFraction of the section width.
+type StationGap struct {
+	// Row is the 1-based row (line) of the point after the gap; From and
+	// To its stations, and Unit their length unit.
+	Row      int
+	From, To float64
+	Unit     string
+	// Warning is the gap's line among the survey's Warnings.
+	Warning string
 }
 
 // Mark returns the mark of point i as written, a bank mark too (the
@@ -633,8 +648,11 @@ func (r *sectionReader) gaps(opt SectionOptions) {
 	u := lengthUnit(r.sv.Units, opt.Coordinates.Feet)
 	for i := 1; i < len(pts); i++ {
 		if gap := pts[i].Station - pts[i-1].Station; gap > MaxGapFraction*width {
-			r.sv.Warnings = append(r.sv.Warnings, fmt.Sprintf("%s: gap of %s %s between stations %s and %s is over %.0f %% of the section width: check for missing points",
-				where(r.t, r.sv.Rows[i]), roundLength(gap), u, roundLength(pts[i-1].Station), roundLength(pts[i].Station), MaxGapFraction*100))
+			g := StationGap{Row: r.sv.Rows[i], From: pts[i-1].Station, To: pts[i].Station, Unit: u}
+			g.Warning = fmt.Sprintf("%s: gap of %s %s between stations %s and %s is over %.0f %% of the section width: check for missing points",
+				where(r.t, g.Row), roundLength(gap), u, roundLength(g.From), roundLength(g.To), MaxGapFraction*100)
+			r.sv.Gaps = append(r.sv.Gaps, g)
+			r.sv.Warnings = append(r.sv.Warnings, g.Warning)
 		}
 	}
 }

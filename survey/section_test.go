@@ -2,6 +2,8 @@ package survey
 
 import (
 	"errors"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -138,6 +140,37 @@ func TestGapWarning(t *testing.T) {
 			all := strings.Join(sv.Warnings, "\n")
 			if tc.want == "" && strings.Contains(all, "gap of") || !strings.Contains(all, tc.want) {
 				t.Errorf("warnings %q, want %q", all, tc.want)
+			}
+		})
+	}
+}
+
+// A section the shape command wrote, opened in a spreadsheet program and
+// saved as a workbook, keeps its comment line as a row (split at its
+// commas) and so escapes the station-gap warning as its CSV file does; the
+// same sheet without that row is warned of.
+func TestGapWarningBuiltSheet(t *testing.T) {
+	points := [][]any{{"station (m)", "elevation (m)", "n", "mark"}, {0, 3, 0.04}, {0, 0, 0.04}, {5, 0, 0.04}, {5, 3}}
+	built := append([][]any{{"# " + BuiltPrefix + "rectangle:width=5", "height=3", " lengths in m; invert at elevation 0."}}, points...)
+	for _, tc := range []struct {
+		name   string
+		rows   [][]any
+		warned bool
+	}{
+		{"built", built, false},
+		{"surveyed", points, true},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			path := filepath.Join(t.TempDir(), "xs.xlsx")
+			if err := os.WriteFile(path, unsavedBook(t, tc.rows), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			sv, err := ReadSection(path, "xs", SectionOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if warned := len(sv.Gaps) > 0 && strings.Contains(strings.Join(sv.Warnings, "\n"), "gap of 5 m"); warned != tc.warned {
+				t.Errorf("gap warned %v, want %v: %q", warned, tc.warned, sv.Warnings)
 			}
 		})
 	}

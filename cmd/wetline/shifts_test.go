@@ -339,3 +339,32 @@ func TestShiftsAppliedFromDiagramTime(t *testing.T) {
 		})
 	}
 }
+
+// TestShiftsPoorBandOpen: the README says a poor gauging's band is open,
+// so that it is never marked outside its band unless its uncertainty
+// column gives one, and the check does so. On testdata/record/rating-a.csv
+// 0.90 m is a row of 5.20 m3/s, so that 7.0 m3/s departs by
+// 100·(7.0 − 5.2)/5.2 = 34.6 %: outside the good band (5 %), not outside
+// a poor one, outside a given 20 % and not a given 40 %.
+func TestShiftsPoorBandOpen(t *testing.T) {
+	t.Parallel()
+	if text := strings.Join(strings.Fields(readme(t)), " "); !strings.Contains(text, "a poor gauging's band is open, so it is never marked outside its band unless its `uncertainty` column gives one") {
+		t.Error("the README's shifts section does not say that a poor gauging's band is open")
+	}
+	gaugings := filepath.Join(t.TempDir(), "g.csv")
+	if err := os.WriteFile(gaugings, []byte("time,stage,discharge,quality,uncertainty\n"+
+		"2024-05-01T09:00,0.90,7.0,good,\n2024-05-02T09:00,0.90,7.0,poor,\n2024-05-03T09:00,0.90,7.0,poor,20\n2024-05-04T09:00,0.90,7.0,poor,40\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	out, errs, code := runCLI(t, "shifts", gaugings, "--rating", recRatingA, "--zero-flow", "0.2", "--format", "csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows := strings.Split(strings.TrimSpace(out), "\n")
+	col := slices.Index(results.ShiftGaugingColumns(), "outside_band")
+	for i, want := range []string{"true", "false", "true", "false"} {
+		if got := strings.Split(rows[i+1], ",")[col]; got != want {
+			t.Errorf("row %q: outside_band %q, want %q", rows[i+1], got, want)
+		}
+	}
+}

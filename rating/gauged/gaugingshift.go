@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"time"
 
@@ -144,9 +145,10 @@ var ErrVisitGap = errors.New("the visit gap must not be negative")
 // by extrapolation beyond the table's rows, or at or below its zero-flow
 // stage (rated 0), is marked (Lookup, ShiftedLookup) and warned of, and so
 // is one above the rating's highest gauging (AboveGaugings,
-// ShiftedAboveGaugings). Gaugings are then grouped into
-// visits, and each visit proposes a shift diagram through its measured
-// shifts.
+// ShiftedAboveGaugings). The gaugings at times when no rating is in force
+// are warned of in one line, counted, the first and last named. Gaugings
+// are then grouped into visits, and each visit proposes a shift diagram
+// through its measured shifts.
 //
 // References:
 //
@@ -164,11 +166,45 @@ func (r *Rater) CheckGaugings(gs []Gauging, opt CheckOptions) (ShiftCheck, error
 	c := ShiftCheck{Units: opt.Units, UTCOffset: opt.UTCOffset, History: r.History(), ShiftPeriods: append([]int(nil), r.used...),
 		Gaugings: make([]GaugingShift, len(gs)), Warnings: append([]string(nil), r.Warnings...)}
 	z := zone(opt.UTCOffset)
+	var unrated []Gauging
+	at := 0 // where the warning of the unrated gaugings goes
 	for i, g := range gs {
 		c.Gaugings[i] = r.checkOne(g, z, &c.Warnings)
+		if c.Gaugings[i].ShiftedLookup == NoRating { // the rating in force at its time: none
+			if len(unrated) == 0 {
+				at = len(c.Warnings)
+			}
+			unrated = append(unrated, g)
+		}
+	}
+	if w := unratedWarning(unrated, z); w != "" {
+		c.Warnings = slices.Insert(c.Warnings, at, w)
 	}
 	c.visits(gap, z)
 	return c, nil
+}
+
+// unratedWarning words the warning of the gaugings at times when no
+// rating is in force: one line for them all, which counts them and names
+// the first and the last in time ("" for none); times in zone z.
+func unratedWarning(gs []Gauging, z *time.Location) string {
+	if len(gs) == 0 {
+		return ""
+	}
+	first, last := gs[0], gs[0]
+	for _, g := range gs[1:] {
+		if g.Time.Before(first.Time) {
+			first = g
+		}
+		if !g.Time.Before(last.Time) {
+			last = g
+		}
+	}
+	if len(gs) == 1 {
+		return fmt.Sprintf("%s: no rating is in force at %s", first.label(), first.Time.In(z).Format(time.RFC3339))
+	}
+	return fmt.Sprintf("no rating is in force at the times of %d gaugings, the first at %s (%s), the last at %s (%s)",
+		len(gs), first.Time.In(z).Format(time.RFC3339), first.label(), last.Time.In(z).Format(time.RFC3339), last.label())
 }
 
 // checkOne measures one gauging; warnings write times in zone z.
@@ -179,8 +215,7 @@ func (r *Rater) checkOne(g Gauging, z *time.Location, warn *[]string) GaugingShi
 	base := r.At(g.Time, g.Stage)
 	out.Period, out.ShiftedLookup = base.Period, base.Lookup
 	if base.Lookup == NoRating {
-		*warn = append(*warn, fmt.Sprintf("%s: no rating is in force at %s", g.label(), g.Time.In(z).Format(time.RFC3339)))
-		return out
+		return out // warned of by CheckGaugings, with the others
 	}
 	rt := r.periods[base.Period].rating
 	out.Rated, out.Lookup = rt.Discharge(g.Stage)

@@ -573,3 +573,47 @@ func TestCheckGaugingsAboveAndExcluded(t *testing.T) {
 		t.Errorf("excluded gauging %+v, visit %+v", g, c.Visits[2])
 	}
 }
+
+// The gaugings at times without a rating are warned of in one line that
+// counts them and names the first and the last in time, whatever their
+// order; one such gauging keeps its own line.
+func TestCheckGaugingsUnratedRolledUp(t *testing.T) {
+	from := time.Date(2024, 6, 1, 0, 0, 0, 0, time.UTC)
+	r := compileHistory(t, History{Periods: []Period{{From: from, Rating: linearRating("q=10h", 10)}}})
+	day := func(d int) time.Time { return from.AddDate(0, 0, d) }
+	for _, tc := range []struct {
+		name  string
+		gs    []Gauging
+		wants []string
+	}{
+		{"one", []Gauging{{Time: day(-3), Stage: 1, Discharge: 10, Source: "g:2"}, {Time: day(1), Stage: 1, Discharge: 10, Source: "g:3"}},
+			[]string{"g:2: no rating is in force at 2024-05-29T00:00:00Z"}},
+		{"three", []Gauging{
+			{Time: day(-3), Stage: 1, Discharge: 10, Source: "g:2"},
+			{Time: day(-9), Stage: 1, Discharge: 10, Source: "g:3"},
+			{Time: day(1), Stage: 1, Discharge: 10, Source: "g:4"},
+			{Time: day(-5), Stage: 1, Discharge: 10, Source: "g:5"},
+		}, []string{"no rating is in force at the times of 3 gaugings, the first at 2024-05-23T00:00:00Z (g:3), the last at 2024-05-29T00:00:00Z (g:2)"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			c, err := r.CheckGaugings(tc.gs, CheckOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got []string
+			for _, w := range c.Warnings {
+				if strings.Contains(w, "no rating is in force") {
+					got = append(got, w)
+				}
+			}
+			if !slices.Equal(got, tc.wants) {
+				t.Errorf("warnings %q, want %q", got, tc.wants)
+			}
+			for i, g := range c.Gaugings {
+				if unrated := tc.gs[i].Time.Before(from); (g.Lookup == NoRating) != unrated {
+					t.Errorf("gauging %d: lookup %v", i, g.Lookup)
+				}
+			}
+		})
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -1144,5 +1145,52 @@ func TestUnsettledWarningRuns(t *testing.T) {
 	}
 	if got := unsettledWarning(BackwaterRating{Rows: []RatingRead{read(1, false)}}, rating.SI); got != "" {
 		t.Errorf("no unsettled read: warning %q", got)
+	}
+}
+
+// The check starts differ from the boundary at the last section by
+// construction, so the spread there says nothing of the departure of its
+// mark: the warning of departures still depending on the boundary names
+// the sections upstream of it only.
+func TestVerifyBackwaterBoundaryMark(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=4", subdivide.Uniform(0.035), 3, 100, 0.001)
+	last := secs[2].Geometry.Bottom()
+	bd := Boundary{Kind: KnownStage, Stage: last + 2.5}
+	res, err := ComputeBackwater(secs, []float64{20}, bd, BackwaterOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ps := res.Profiles[0].Sections
+	tol := BackwaterOptions{}.spreadTolerance()
+	if !(ps[0].Spread > tol && ps[2].Spread > tol) {
+		t.Fatalf("spreads %g, %g: the reach should be too short to forget its boundary", ps[0].Spread, ps[2].Spread)
+	}
+	for _, c := range []struct {
+		name   string
+		marked []int
+		want   string // "" for no warning
+	}{
+		{"boundary mark only", []int{2}, ""},
+		{"upstream and boundary marks", []int{0, 2}, "at the marks of P0 ("},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			s := slices.Clone(secs)
+			for _, i := range c.marked {
+				s[i].Left, s[i].Right = ps[i].WaterSurface, ps[i].WaterSurface
+			}
+			v, err := VerifyBackwater(s, 20, bd, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var w string
+			for _, x := range v.Warnings {
+				if strings.Contains(x, "still depends on the downstream boundary") {
+					w = x
+				}
+			}
+			if c.want == "" && w != "" || c.want != "" && !strings.Contains(w, c.want) || strings.Contains(w, "P2") {
+				t.Errorf("warning %q, want %q without the boundary section P2", w, c.want)
+			}
+		})
 	}
 }

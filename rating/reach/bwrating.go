@@ -146,7 +146,10 @@ type MarkDeparture struct {
 // (Section.Quality; rating.Quality.MarkSD), where rated. The warnings are
 // the computation's, except that a profile still depending on the
 // boundary is warned at the marked sections where it does (spread above
-// the tolerance) rather than at the rating section.
+// the tolerance) rather than at the rating section; the last section,
+// where the profile starts, is left out of that warning, since the check
+// starts differ from the boundary there by construction and its stage is
+// the boundary's.
 //
 // Errors are ComputeBackwater's, or ErrNoMarks when no section has a mark.
 //
@@ -193,7 +196,7 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 		if finite(s.Right) {
 			d.RightDeparture = ws - s.Right
 		}
-		if sp := v.Profile.Sections[i].Spread; sp > tol {
+		if sp := v.Profile.Sections[i].Spread; sp > tol && i < len(secs)-1 {
 			loose = append(loose, fmt.Sprintf("%s (%.3f %s)", s.ID, sp, opt.Units.Length()))
 		}
 		d.Band = math.NaN()

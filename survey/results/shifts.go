@@ -415,7 +415,7 @@ func WriteShiftsSummary(w io.Writer, c *gauged.ShiftCheck, path string) error {
 	}
 	fmt.Fprintf(bw, ", %d outside their bands on the base rating", out)
 	if len(c.History.Shifts) > 0 {
-		fmt.Fprintf(bw, ", %d with the shifts applied", outShifted)
+		fmt.Fprintf(bw, ", %d once shifted", outShifted)
 	}
 	fmt.Fprintf(bw, "; %s %s a shift diagram\n", rating.Counted(proposed, "visit", "visits"), rating.Agree(proposed, "proposes", "propose"))
 	return endSummary(bw, c.Warnings)

@@ -192,3 +192,19 @@ func TestShiftsWorkbookProposalPeriods(t *testing.T) {
 		}
 	}
 }
+
+// The summary counts the gaugings outside their bands on the base rating
+// and on the shifted one in words that do not read as no shifts applied.
+func TestShiftsSummaryOutsideCounts(t *testing.T) {
+	c := gauged.ShiftCheck{
+		Gaugings: []gauged.GaugingShift{{Outside: true}, {Outside: true}, {}},
+		History:  gauged.History{Shifts: []gauged.ShiftDiagram{{Points: []gauged.ShiftPoint{{Stage: 1, Shift: 0.1}}}}},
+	}
+	var b bytes.Buffer
+	if err := results.WriteShiftsSummary(&b, &c, "s.csv"); err != nil {
+		t.Fatal(err)
+	}
+	if want := "wrote s.csv: 3 gaugings in 0 visits, 2 outside their bands on the base rating, 0 once shifted; "; !strings.HasPrefix(b.String(), want) {
+		t.Errorf("summary %q, want it to begin %q", b.String(), want)
+	}
+}
