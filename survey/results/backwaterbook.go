@@ -45,12 +45,7 @@ func WriteBackwaterWorkbook(w io.Writer, rep reach.BackwaterReport) error {
 			return err
 		}
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // bwReachName names the reach table read ("reach" when built in code).

@@ -213,12 +213,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 	if err := s.Flush(); err != nil {
 		return err
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // sectionValues are the cells of a section comparison row, in the order
@@ -367,12 +362,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 	if err := s.Flush(); err != nil {
 		return err
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // WriteComparisonSummary says that a comparison was written to path.

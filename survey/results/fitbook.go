@@ -98,12 +98,7 @@ func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 			return err
 		}
 	}
-	if len(r.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(r.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, r.Figures)
 }
 
 // fitClock is a gauging's time for a date cell of a fit workbook: the wall

@@ -87,12 +87,7 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 			return err
 		}
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // reportedStations returns a copy of sec whose stations and bank
@@ -459,6 +454,18 @@ func newBook(kind string, site rating.Site, key string) *workbook.Book {
 	b := workbook.NewBook()
 	b.Title, b.Footer, b.Words = BookTitle(kind, site, key), rating.Caution, true
 	return b
+}
+
+// finishBook ends a results workbook: it adds the plots sheet with the
+// report's figures when there are any (none: no plots sheet) and writes
+// the book to w.
+func finishBook(w io.Writer, b *workbook.Book, figs []rating.Figure) error {
+	if len(figs) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(figs)); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
 }
 
 // BookTitle is the title printed at the head of every page of a results

@@ -110,12 +110,7 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 			return err
 		}
 	}
-	if len(res.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(res.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, res.Figures)
 }
 
 // historyItems are the summary items stating rating periods and diagrams.

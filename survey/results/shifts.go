@@ -320,12 +320,7 @@ func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
 			return err
 		}
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // writeShiftsSummary writes the summary sheet of a shifts workbook.

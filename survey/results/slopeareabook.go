@@ -50,12 +50,7 @@ func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 			return err
 		}
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // saSubreachesSolved words how the subreaches of a slope-area estimate
