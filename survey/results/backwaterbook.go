@@ -38,12 +38,10 @@ const (
 func WriteBackwaterWorkbook(w io.Writer, rep reach.BackwaterReport) error {
 	b := newBook("step-backwater", rep.Provenance.Site, bwReachName(rep))
 	defer b.Close()
-	for _, write := range []func(*workbook.Book, reach.BackwaterReport) error{
+	if err := writeSheets(b, rep,
 		writeBWSummary, writeBWRating, writeBWConvergence, writeBWProfiles, writeBWSubsections, writeBWVerification,
-	} {
-		if err := write(b, rep); err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
 	return finishBook(w, b, rep.Figures)
 }

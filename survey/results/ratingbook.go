@@ -468,6 +468,17 @@ func finishBook(w io.Writer, b *workbook.Book, figs []rating.Figure) error {
 	return b.Write(w)
 }
 
+// writeSheets writes sheets of a results workbook in order, each by its
+// function of the report, and stops at the first that fails.
+func writeSheets[R any](b *workbook.Book, rep R, sheets ...func(*workbook.Book, R) error) error {
+	for _, write := range sheets {
+		if err := write(b, rep); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
 // BookTitle is the title printed at the head of every page of a results
 // workbook of a kind of report: "wetline KIND: " and the site's name when
 // one is known (given with --site or read from an input's site key), else

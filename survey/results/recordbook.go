@@ -105,10 +105,8 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 			return writeShiftGaugingsSheet(b, res.Gaugings, res.Zone, res.GaugeStages)
 		})
 	}
-	for _, step := range steps {
-		if err := step(b, res); err != nil {
-			return err
-		}
+	if err := writeSheets(b, res, steps...); err != nil {
+		return err
 	}
 	return finishBook(w, b, res.Figures)
 }

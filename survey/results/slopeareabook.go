@@ -43,12 +43,10 @@ const (
 func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	b := newBook("slope-area", rep.Provenance.Site, saReachName(rep))
 	defer b.Close()
-	for _, write := range []func(*workbook.Book, reach.Report) error{
+	if err := writeSheets(b, rep,
 		writeSASummary, writeSAInputs, writeSASections, writeSASubsections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
-	} {
-		if err := write(b, rep); err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
 	return finishBook(w, b, rep.Figures)
 }
