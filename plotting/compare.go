@@ -25,14 +25,10 @@ func styleB() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg
 // 100·(B − A)/A against stage over their common range. site titles it
 // (base when it is blank); base starts its file name.
 func DrawRatingComparison(c *gauged.RatingComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
 	site = siteOrBase(site, base)
-	if err := set.add("compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
 		return ratingComparisonFigure(w, c, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 func tableXY(t gauged.RatingTable) plotter.XYs {
@@ -175,13 +171,9 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 // percent differences of area and conveyance, B from A, against stage.
 // site titles it; base starts its file name.
 func DrawSectionComparison(c *rating.SectionComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
-	if err := set.add("overlay", "the two surveys overlaid, and the differences of area and conveyance against stage", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "overlay", "the two surveys overlaid, and the differences of area and conveyance against stage", func(w io.Writer) (Result, error) {
 		return sectionComparisonFigure(w, c, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 func groundXY(g rating.Ground) plotter.XYs {

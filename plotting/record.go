@@ -325,13 +325,9 @@ func ringPoints(p *plot.Plot, xy plotter.XYs, label string) {
 // gauge heights (and the effective gauge heights when a shift is
 // applied). site titles it; base starts its file name.
 func DrawRecord(res *record.Result, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
-	if err := set.add("hydrograph", "hydrograph: unit and daily mean discharge with the gaugings, and the gauge height", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "hydrograph", "hydrograph: unit and daily mean discharge with the gaugings, and the gauge height", func(w io.Writer) (Result, error) {
 		return hydrograph(w, res, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 // hydrograph draws the record's hydrograph figure: the discharge panel
