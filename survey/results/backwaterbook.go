@@ -140,10 +140,8 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 		}
 		vals := []any{rd.Discharge, rd.Stage, second, halfway, rd.Spread, yes(rd.Critical), yes(rd.Unsettled)}
 		if rd.Unsettled {
-			for k := range vals {
-				if vals[k], err = b.Marked(cols[k].Format, vals[k]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {
@@ -227,10 +225,8 @@ func writeBWVerification(b *workbook.Book, rep reach.BackwaterReport) error {
 		vals := []any{m.ID, m.Distance, m.Left, m.Right, m.Mark, m.WaterSurface, m.Departure, m.LeftDeparture,
 			m.RightDeparture, m.Band, yes(m.Outside)}
 		if m.Outside {
-			for k := range vals {
-				if vals[k], err = b.Marked(cols[k].Format, vals[k]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {

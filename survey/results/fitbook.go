@@ -381,10 +381,8 @@ func writeMarkedRows(b *workbook.Book, name string, cols []workbook.Column, rows
 	for _, row := range rows {
 		vals := values(row)
 		if row.Extrapolated() {
-			for i, v := range vals {
-				if vals[i], err = b.Marked(cols[i].Format, v); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {

@@ -251,10 +251,8 @@ func writeSAChecks(b *workbook.Book, rep reach.Report) error {
 	for _, c := range rep.Result.Checks {
 		vals := []any{c.Name, c.Value, c.Relation, c.Limit, c.Status(), workbook.Styled{Style: ws, Value: c.Source}}
 		if !c.Pass {
-			for i := range 5 { // the source keeps its wrapping
-				if vals[i], err = b.Marked(cols[i].Format, vals[i]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals[:5]); err != nil { // the source keeps its wrapping
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {
