@@ -311,14 +311,24 @@ func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 		return err
 	}
 	for _, r := range t.Rows {
-		for i, sr := range r.Subs {
-			if err := s.Row(r.Stage, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
-				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
-				return err
-			}
+		if err := writeSubsectionRows(s, r.Stage, r.Subs); err != nil {
+			return err
 		}
 	}
 	return s.Flush()
+}
+
+// writeSubsectionRows writes the subsections of one stage or section as
+// rows of subsectionColumns, each after key (the stage, or the section's
+// id) and numbered from 1.
+func writeSubsectionRows(s *reportSheet, key any, subs []rating.SubRow) error {
+	for i, sr := range subs {
+		if err := s.Row(key, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
+			sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // SummaryColumns returns the columns of a summary sheet: item, value, unit.

@@ -193,11 +193,8 @@ func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 		return err
 	}
 	for _, sec := range rep.Result.Sections {
-		for i, sr := range sec.Subs {
-			if err := s.Row(sec.ID, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
-				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
-				return err
-			}
+		if err := writeSubsectionRows(s, sec.ID, sec.Subs); err != nil {
+			return err
 		}
 	}
 	return s.Flush()
