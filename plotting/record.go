@@ -2,7 +2,6 @@ package plotting
 
 import (
 	"fmt"
-	"image/color"
 	"io"
 	"math"
 	"time"
@@ -352,7 +351,7 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 			rating.Counted(len(res.Periods), "rating period", "rating periods"), rating.Counted(len(res.Shifts), "shift diagram", "shift diagrams"), record.FormatDuration(res.MaxGap)),
 		foot: []string{"Provisional: a computed record is provisional until reviewed; check the shifts, the gaps and every flagged value.",
 			DefaultCaution},
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+		footColor: colCaution,
 	}
 	err := render(w, size, fig, func(c draw.Canvas) error {
 		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(14)}
