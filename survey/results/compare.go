@@ -158,18 +158,6 @@ func extrapolationWords(c *gauged.RatingComparison) string {
 	return "neither table's highest gauging is known"
 }
 
-// writeTextEnd writes the warnings and the caution at the end of a text
-// report.
-func writeTextEnd(bw *bufio.Writer, warnings []string) {
-	if len(warnings) > 0 {
-		bw.WriteString("\n")
-		for _, s := range warnings {
-			fmt.Fprintf(bw, "warning: %s\n", s)
-		}
-	}
-	fmt.Fprintf(bw, "\ncaution: %s\n", rating.Caution)
-}
-
 // WriteRatingComparisonWorkbook writes a comparison of two ratings as a
 // workbook: summary (both ratings, the range, the largest difference,
 // warnings, caution), comparison (RatingComparisonColumns() with units)
