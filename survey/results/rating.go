@@ -268,9 +268,5 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 	bw.WriteByte('\n')
 	writeMainColumnsText(bw, t)
 	bw.WriteByte('\n')
-	for _, s := range warnings {
-		fmt.Fprintln(bw, "warning: "+s)
-	}
-	fmt.Fprintln(bw, "caution: "+rating.Caution)
-	return bw.Flush()
+	return endSummary(bw, warnings)
 }
