@@ -660,16 +660,13 @@ func TestRecordGaugeStages(t *testing.T) {
 	}
 }
 
-// TestRecordExcludedGaugings: a gauging left out by its exclude column is
-// marked x in the record's gauging table, listed with its reason and not
-// counted outside its band (it is outside: -13.1 % of a good gauging's
-// 5 % band, in record.txt).
-func TestRecordExcludedGaugings(t *testing.T) {
-	t.Parallel()
-	dir := t.TempDir()
-	gs := filepath.Join(dir, "gaugings.csv")
-	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality,exclude\n"+
-		"2024-05-01T09:00,0.84,4.10,good,\n2024-05-01T12:00,1.12,7.60,fair,\n2024-05-02T11:00,0.60,1.95,good,meter spin test failed\n"), 0o644); err != nil {
+// recordAgainst runs the record of recordArgs checked against the
+// gaugings CSV body instead of the test gaugings, and returns its report;
+// a run that fails fails t.
+func recordAgainst(t *testing.T, body string) string {
+	t.Helper()
+	gs := filepath.Join(t.TempDir(), "gaugings.csv")
+	if err := os.WriteFile(gs, []byte(body), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	args := recordArgs()
@@ -682,6 +679,17 @@ func TestRecordExcludedGaugings(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
+	return out
+}
+
+// TestRecordExcludedGaugings: a gauging left out by its exclude column is
+// marked x in the record's gauging table, listed with its reason and not
+// counted outside its band (it is outside: -13.1 % of a good gauging's
+// 5 % band, in record.txt).
+func TestRecordExcludedGaugings(t *testing.T) {
+	t.Parallel()
+	out := recordAgainst(t, "time,stage,discharge,quality,exclude\n"+
+		"2024-05-01T09:00,0.84,4.10,good,\n2024-05-01T12:00,1.12,7.60,fair,\n2024-05-02T11:00,0.60,1.95,good,meter spin test failed\n")
 	for _, want := range []string{"-13.1x", "0 of 3 gaugings (1 excluded) lie outside their quality bands from the record",
 		"excluded, never counted outside its band: 2024-05-02T11:00:00Z, meter spin test failed"} {
 		if !strings.Contains(out, want) {
@@ -861,20 +869,7 @@ func TestRecordMissingReadings(t *testing.T) {
 // invented (0.84 m, 4.10 m3/s, as in TestRecordExcludedGaugings).
 func TestRecordOneGaugingCounted(t *testing.T) {
 	t.Parallel()
-	gs := filepath.Join(t.TempDir(), "gaugings.csv")
-	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality\n2024-05-01T09:00,0.84,4.10,good\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	args := recordArgs()
-	for i, a := range args {
-		if a == recGaugings {
-			args[i] = gs
-		}
-	}
-	out, errs, code := runCLI(t, args...)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out := recordAgainst(t, "time,stage,discharge,quality\n2024-05-01T09:00,0.84,4.10,good\n")
 	if !strings.Contains(out, "  the 1 gauging does not lie outside its quality band from the record\n") ||
 		!strings.Contains(out, "  the 1 gauge height does not differ from the recorded stage by more than ") || strings.Contains(out, "of 1 gauging") {
 		t.Errorf("record report:\n%s", out)
