@@ -38,18 +38,18 @@ func recordArgs(extra ...string) []string {
 	return append(args, extra...)
 }
 
-func TestRecordGolden(t *testing.T) {
-	t.Parallel()
-	for _, tc := range []struct {
-		name string
-		args []string
-	}{
-		{"record.txt", recordArgs()},
-		{"record-unit.txt", recordArgs("--unit", "--utc-offset", "+10:00")},
-		{"record-daily.csv", recordArgs("--format", "csv")},
-		{"record-unit.csv", recordArgs("--unit", "--format", "csv")},
-		{"record.json", recordArgs("--format", "json")},
-	} {
+// recordGolden is a command line whose standard output is the golden
+// file testdata/record/golden/NAME.
+type recordGolden struct {
+	name string
+	args []string
+}
+
+// checkRecordGoldens runs each command line in a parallel subtest named
+// by its golden file and checks what it writes against that file.
+func checkRecordGoldens(t *testing.T, cases []recordGolden) {
+	t.Helper()
+	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			out, errs, code := runCLI(t, tc.args...)
@@ -59,6 +59,17 @@ func TestRecordGolden(t *testing.T) {
 			golden(t, filepath.Join("record", "golden", tc.name), out)
 		})
 	}
+}
+
+func TestRecordGolden(t *testing.T) {
+	t.Parallel()
+	checkRecordGoldens(t, []recordGolden{
+		{"record.txt", recordArgs()},
+		{"record-unit.txt", recordArgs("--unit", "--utc-offset", "+10:00")},
+		{"record-daily.csv", recordArgs("--format", "csv")},
+		{"record-unit.csv", recordArgs("--unit", "--format", "csv")},
+		{"record.json", recordArgs("--format", "json")},
+	})
 }
 
 // jsonKeys returns the keys of a JSON object in the order written.
