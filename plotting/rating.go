@@ -521,22 +521,16 @@ func addBands(p *plot.Plot, total, band []BandPoint, totalLabel, bandLabel strin
 func panelXYs(pts []RatingPoint, e float64, logv bool) plotter.XYs {
 	var xy plotter.XYs
 	for _, q := range pts {
-		if y, ok := panelY(q.Stage, q.Discharge, e, logv); ok {
-			xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
+		y := q.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && q.Discharge > 0) {
+				continue
+			}
 		}
+		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
 	}
 	return xy
-}
-
-// panelY is where a point at stage with discharge x stands on a rating
-// panel: at its stage, or on the log panel (logv) at stage − e; ok is
-// false where the log panel cannot show it (stage − e or x not positive).
-func panelY(stage, x, e float64, logv bool) (y float64, ok bool) {
-	if !logv {
-		return stage, true
-	}
-	y = stage - e
-	return y, y > 0 && x > 0
 }
 
 // addStyledCurve draws a curve in one line style (on the log panel:
@@ -566,10 +560,15 @@ func addCurve(p *plot.Plot, pts []RatingPoint, label string, c color.Color, widt
 	var xy plotter.XYs
 	var ext []bool
 	for _, q := range pts {
-		if y, ok := panelY(q.Stage, q.Discharge, e, logv); ok {
-			xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
-			ext = append(ext, q.Extrapolated)
+		y := q.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && q.Discharge > 0) {
+				continue
+			}
 		}
+		xy = append(xy, plotter.XY{X: q.Discharge, Y: y})
+		ext = append(ext, q.Extrapolated)
 	}
 	if len(xy) == 0 {
 		return 0
@@ -640,9 +639,12 @@ func splitRuns(ext []bool) []run {
 func bandPolygon(b []BandPoint, e float64, logv bool) *plotter.Polygon {
 	var lo, hi plotter.XYs
 	for _, p := range b {
-		y, ok := panelY(p.Stage, p.Low, e, logv)
-		if !ok {
-			continue
+		y := p.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && p.Low > 0) {
+				continue
+			}
 		}
 		lo = append(lo, plotter.XY{X: p.Low, Y: y})
 		hi = append(hi, plotter.XY{X: p.High, Y: y})
@@ -723,9 +725,12 @@ func addGaugings(p *plot.Plot, gs []Gauging, e float64, logv bool) int {
 	var bars []hbar
 	n := 0
 	for _, g := range gs {
-		y, ok := panelY(g.Stage, g.Discharge, e, logv)
-		if !ok {
-			continue
+		y := g.Stage
+		if logv {
+			y -= e
+			if !(y > 0 && g.Discharge > 0) {
+				continue
+			}
 		}
 		q := g.quality()
 		k := gaugingKey{q, g.Excluded}
