@@ -94,17 +94,7 @@ func BackwaterProfiles(w io.Writer, r BackwaterPlot) (Result, error) {
 	addReachBed(p, leg, secs, r.At, ext)
 	res.Warnings = append(res.Warnings, addProfiles(p, leg, r.Profiles, un, ext)...)
 	res.Warnings = append(res.Warnings, addMarks(p, leg, secs, ext)...)
-	lo, hi := ext.lo, ext.hi
-	span := hi - lo
-	if !(span > 0) {
-		span = 1
-	}
-	p.Y.Min, p.Y.Max = lo-0.05*span, hi+0.12*span
-	xspan := secs[len(secs)-1].Distance - secs[0].Distance
-	if !(xspan > 0) {
-		xspan = 1
-	}
-	p.X.Min, p.X.Max = secs[0].Distance-0.04*xspan, secs[len(secs)-1].Distance+0.04*xspan
+	setProfileRanges(p, secs, ext.lo, ext.hi, 0.12)
 	sub := r.Subtitle
 	if sub == "" {
 		sub = rating.Counted(len(r.Profiles), "profile", "profiles") + " through " + rating.Counted(len(secs), "section", "sections")

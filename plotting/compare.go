@@ -2,7 +2,6 @@ package plotting
 
 import (
 	"fmt"
-	"image/color"
 	"io"
 	"math"
 
@@ -25,14 +24,10 @@ func styleB() draw.LineStyle { return lineStyle(colFitted, 2.0, vg.Points(7), vg
 // 100·(B − A)/A against stage over their common range. site titles it
 // (base when it is blank); base starts its file name.
 func DrawRatingComparison(c *gauged.RatingComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
 	site = siteOrBase(site, base)
-	if err := set.add("compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "compare", "the two ratings and their percent difference against stage", func(w io.Writer) (Result, error) {
 		return ratingComparisonFigure(w, c, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 // tableXY is the line of a rating table compared: discharge against
@@ -101,6 +96,17 @@ func percentRange(base, pct []float64) (lo, hi float64, clipped bool) {
 	return lo - pad, hi + pad, clipped
 }
 
+// renderComparison draws a comparison figure into w: its two panels side
+// by side under the title and subtitle, and the foot of compareFoot in
+// the caution's colour.
+func renderComparison(w io.Writer, size Size, title, subtitle string, clipped bool, left, right *plot.Plot) error {
+	fig := figure{title: title, subtitle: subtitle, foot: compareFoot(clipped), footColor: colCaution}
+	return render(w, size, fig, func(cv draw.Canvas) error {
+		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
+		return nil
+	})
+}
+
 // compareFoot is the foot of a comparison figure: a note when percents
 // near zero run off the panel, and the caution.
 func compareFoot(clipped bool) []string {
@@ -163,16 +169,7 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 		right.X.Min, right.X.Max = plo, phi
 	}
 	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
-	fig := figure{
-		title:     titleOf(site, "", "two ratings compared"),
-		subtitle:  ratingComparisonSubtitle(c, un),
-		foot:      compareFoot(clipped),
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
-	}
-	err := render(w, size, fig, func(cv draw.Canvas) error {
-		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
-		return nil
-	})
+	err := renderComparison(w, size, titleOf(site, "", "two ratings compared"), ratingComparisonSubtitle(c, un), clipped, left, right)
 	return res, err
 }
 
@@ -181,13 +178,9 @@ func ratingComparisonFigure(w io.Writer, c *gauged.RatingComparison, site string
 // percent differences of area and conveyance, B from A, against stage.
 // site titles it; base starts its file name.
 func DrawSectionComparison(c *rating.SectionComparison, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
-	if err := set.add("overlay", "the two surveys overlaid, and the differences of area and conveyance against stage", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "overlay", "the two surveys overlaid, and the differences of area and conveyance against stage", func(w io.Writer) (Result, error) {
 		return sectionComparisonFigure(w, c, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 func groundXY(g rating.Ground) plotter.XYs {
@@ -241,16 +234,8 @@ func sectionComparisonFigure(w io.Writer, c *rating.SectionComparison, site stri
 		right.X.Min, right.X.Max = plo, phi
 	}
 	right.X.Tick.Marker, right.Y.Tick.Marker = linearTicks{}, linearTicks{}
-	fig := figure{
-		title:     titleOf(site, "", "two surveys of one section compared"),
-		subtitle:  "B − A: more area or conveyance in B means scour (or a lower control) since A, less means fill",
-		foot:      compareFoot(clipped),
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
-	}
-	err := render(w, size, fig, func(cv draw.Canvas) error {
-		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
-		return nil
-	})
+	err := renderComparison(w, size, titleOf(site, "", "two surveys of one section compared"),
+		"B − A: more area or conveyance in B means scour (or a lower control) since A, less means fill", clipped, left, right)
 	return res, err
 }
 

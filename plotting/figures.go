@@ -65,6 +65,17 @@ func (s *figureSet) add(kind, caption string, draw func(w io.Writer) (Result, er
 	return nil
 }
 
+// oneFigure draws the one figure of a report, named base-kind.png, and
+// returns it with its warnings, as the Draw functions do; nothing but the
+// error when it cannot be drawn.
+func oneFigure(base, kind, caption string, draw func(w io.Writer) (Result, error)) ([]rating.Figure, []string, error) {
+	set := &figureSet{base: base}
+	if err := set.add(kind, caption, draw); err != nil {
+		return nil, nil, err
+	}
+	return set.figs, set.warnings, nil
+}
+
 // DrawRating draws the rating, cross-section (with a ground line) and
 // properties figures of a rating table, its curve named by TableLabel and
 // the figure titled by the table's Kind when it has one; rows flagged
@@ -208,19 +219,15 @@ func waterSurfaces(t rating.Table, datum, bankfull float64, hasBankfull bool) []
 // a Bayesian fit, and both 95 % bands shaded along the whole table.
 // Stages are gauge heights.
 func DrawFit(rep *gauged.Report, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
 	rp := FitPlot(rep, site)
 	rp.Size = size
 	caption := "gaugings against the hydraulic and fitted ratings, with both 95 % bands"
 	if rep.Table == nil {
 		caption = "gaugings against the hydraulic rating"
 	}
-	if err := set.add("fit", caption, func(w io.Writer) (Result, error) {
+	return oneFigure(base, "fit", caption, func(w io.Writer) (Result, error) {
 		return Rating(w, rp)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 // FitPlot lays out a gaugings report as the rating plot DrawFit draws:
@@ -400,9 +407,7 @@ func verificationNote(v reach.Verification, u rating.Units) string {
 // DrawPlan draws the plan figure of a projected coordinate survey, named
 // base-plan.png.
 func DrawPlan(in PlanPlot, base string) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
-	err := set.add("plan", "plan of the survey "+in.Section+" and its section line", func(w io.Writer) (Result, error) { return Plan(w, in) })
-	return set.figs, set.warnings, err
+	return oneFigure(base, "plan", "plan of the survey "+in.Section+" and its section line", func(w io.Writer) (Result, error) { return Plan(w, in) })
 }
 
 // BackwaterFigures are the inputs of the figures of a step-backwater

@@ -250,11 +250,20 @@ func (l profileLines) setRanges(p *plot.Plot, secs []ReachSection) {
 			lo, hi = math.Min(lo, q.Y), math.Max(hi, q.Y)
 		}
 	}
+	setProfileRanges(p, secs, lo, hi, 0.18)
+}
+
+// setProfileRanges sets the axes of a profile against distance
+// downstream: elevations lo to hi with 5 % of their span below and top
+// (a fraction of it) above, for the section labels and the legend, and
+// the sections' distances (secs sorted downstream) with 4 % of the
+// reach's length at both ends. A span that is not positive counts as 1.
+func setProfileRanges(p *plot.Plot, secs []ReachSection, lo, hi, top float64) {
 	span := hi - lo
 	if !(span > 0) {
 		span = 1
 	}
-	p.Y.Min, p.Y.Max = lo-0.05*span, hi+0.18*span
+	p.Y.Min, p.Y.Max = lo-0.05*span, hi+top*span
 	xspan := secs[len(secs)-1].Distance - secs[0].Distance
 	if !(xspan > 0) {
 		xspan = 1

@@ -2,7 +2,6 @@ package plotting
 
 import (
 	"fmt"
-	"image/color"
 	"io"
 	"math"
 	"time"
@@ -325,13 +324,9 @@ func ringPoints(p *plot.Plot, xy plotter.XYs, label string) {
 // gauge heights (and the effective gauge heights when a shift is
 // applied). site titles it; base starts its file name.
 func DrawRecord(res *record.Result, site, base string, size Size) ([]rating.Figure, []string, error) {
-	set := &figureSet{base: base}
-	if err := set.add("hydrograph", "hydrograph: unit and daily mean discharge with the gaugings, and the gauge height", func(w io.Writer) (Result, error) {
+	return oneFigure(base, "hydrograph", "hydrograph: unit and daily mean discharge with the gaugings, and the gauge height", func(w io.Writer) (Result, error) {
 		return hydrograph(w, res, site, size)
-	}); err != nil {
-		return nil, nil, err
-	}
-	return set.figs, set.warnings, nil
+	})
 }
 
 // hydrograph draws the record's hydrograph figure: the discharge panel
@@ -356,7 +351,7 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 			rating.Counted(len(res.Periods), "rating period", "rating periods"), rating.Counted(len(res.Shifts), "shift diagram", "shift diagrams"), record.FormatDuration(res.MaxGap)),
 		foot: []string{"Provisional: a computed record is provisional until reviewed; check the shifts, the gaps and every flagged value.",
 			DefaultCaution},
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+		footColor: colCaution,
 	}
 	err := render(w, size, fig, func(c draw.Canvas) error {
 		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(14)}

@@ -2,7 +2,6 @@ package plotting
 
 import (
 	"fmt"
-	"image/color"
 	"io"
 	"math"
 	"sort"
@@ -54,7 +53,7 @@ func shiftFigure(c *gauged.ShiftCheck, site, what string) figure {
 		subtitle: fmt.Sprintf("%d of %s with a measured shift, %s; shift = what is added to the gauge height for the rating to pass through the gauging",
 			measured, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), rating.Counted(len(c.Visits), "visit", "visits")),
 		foot:      []string{DefaultCaution},
-		footColor: color.NRGBA{R: 0x4a, G: 0x30, B: 0x20, A: 0xff},
+		footColor: colCaution,
 	}
 }
 

@@ -149,6 +149,21 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 	return RatingTablesFromTable(t, opt)
 }
 
+// stageDischargeColumns finds the stage (or gauge_height) and discharge
+// columns of a table of a rating, both required, and what their headers
+// say of its unit system (Table.HeaderUnits); units is that note, as far
+// as it was read, also when err is not nil.
+func (t *Table) stageDischargeColumns() (cs, cq int, units UnitNote, err error) {
+	if cs, err = t.Require(ColRatingStage, ColGaugeHeight); err != nil {
+		return cs, cq, units, err
+	}
+	if cq, err = t.Require(ColRatingDischarge); err != nil {
+		return cs, cq, units, err
+	}
+	units, err = t.HeaderUnits(cs, cq)
+	return cs, cq, units, err
+}
+
 // RatingTablesFromTable reads one rating from a table with stage and
 // discharge columns (any table wetline writes of a rating, or one an office
 // keeps), or, when the table has a valid_from column, one rating per
@@ -169,15 +184,9 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	if err != nil {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
 	}
-	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
+	cs, cq, units, err := t.stageDischargeColumns()
+	out.Units = units
 	if err != nil {
-		return out, err
-	}
-	cq, err := t.Require(ColRatingDischarge)
-	if err != nil {
-		return out, err
-	}
-	if out.Units, err = t.HeaderUnits(cs, cq); err != nil {
 		return out, err
 	}
 	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)

@@ -954,15 +954,9 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 // cell is reported, each naming its row and column.
 func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 	out := BoundaryRating{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
-	cs, err := t.Require(ColRatingStage, ColGaugeHeight)
+	cs, cq, units, err := t.stageDischargeColumns()
+	out.Units = units
 	if err != nil {
-		return out, err
-	}
-	cq, err := t.Require(ColRatingDischarge)
-	if err != nil {
-		return out, err
-	}
-	if out.Units, err = t.HeaderUnits(cs, cq); err != nil {
 		return out, err
 	}
 	if err := t.unsavedIn(cs, cq); err != nil {

@@ -9,8 +9,6 @@ import (
 	"strings"
 	"time"
 
-	"github.com/xuri/excelize/v2"
-
 	"wetline/rating"
 	"wetline/rating/record"
 )
@@ -206,51 +204,29 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 		return nil, err
 	}
 	b.out.Warnings = append(b.out.Warnings, warnings...)
-	rows, err := f.Rows(sheet)
-	if err != nil {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
-	}
-	defer rows.Close()
 	var fields [][]byte
-	var meta map[string]string
-	for n := 1; rows.Next(); n++ {
-		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
-		if err != nil {
-			return nil, &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
-		}
-		if blank(rec) {
-			continue
-		}
-		f.shown(sheet, n, rec)
-		if m, ok := siteRow(meta, rec, true, b.header != nil); ok {
-			meta = m
-			continue
-		}
-		if b.header == nil {
+	meta, err := f.sheetRows(path, sheet, nil, func(n int, rec []string, header bool) (bool, error) {
+		if header {
 			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
-				return nil, err
+				return false, err
 			}
 			// A formula with no saved value is refused in the header,
 			// above it and in the columns read, as sheetTable and
 			// Table.unsavedIn refuse it.
 			if err := unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it"); err != nil {
-				return nil, err
+				return false, err
 			}
-			if err := unsavedError(path, sheet, b.header, unsaved, int64(n)+1, MaxSheetRows, []int{b.ct, b.cs, b.cq, b.cz}, "in the columns read"); err != nil {
-				return nil, err
-			}
-			continue
+			return false, unsavedError(path, sheet, b.header, unsaved, int64(n)+1, MaxSheetRows, []int{b.ct, b.cs, b.cq, b.cz}, "in the columns read")
 		}
 		fields = fields[:0]
 		for _, c := range rec {
 			fields = append(fields, []byte(strings.TrimSpace(c)))
 		}
-		if b.row(fields, n); b.full() {
-			break
-		}
-	}
-	if err := rows.Error(); err != nil {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+		b.row(fields, n)
+		return b.full(), nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	b.out.Site = siteOf(meta)
 	return b.finish()

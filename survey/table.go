@@ -816,41 +816,17 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	b.t.Warnings = warnings
 	unsaved := f.scans.done[sheet].unsaved
 	b.t.Date1904 = f.date1904
-	rows, err := f.Rows(sheet)
-	if err != nil {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
-	}
-	defer rows.Close()
-	n := 0
-	for rows.Next() {
-		n++
-		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
-		if err != nil {
-			return nil, &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
-		}
-		if blank(rec) {
-			continue
-		}
-		f.shown(sheet, n, rec)
-		if m, ok := siteRow(b.t.Meta, rec, true, b.t.Header != nil); ok {
-			b.t.Meta = m
-			continue
-		}
-		if b.t.Header == nil {
+	b.t.Meta, err = f.sheetRows(path, sheet, b.t.Meta, func(n int, rec []string, header bool) (bool, error) {
+		if header {
 			if err := b.header(rec, n); err != nil {
-				return nil, err
+				return false, err
 			}
-			if err := unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it"); err != nil {
-				return nil, err
-			}
-			continue
+			return false, unsavedError(path, sheet, nil, unsaved, 1, int64(n), nil, "in the header and above it")
 		}
-		if err := b.row(rec, n); err != nil {
-			return nil, err
-		}
-	}
-	if err := rows.Error(); err != nil {
-		return nil, &ParseError{File: path, Sheet: sheet, Err: err}
+		return false, b.row(rec, n)
+	})
+	if err != nil {
+		return nil, err
 	}
 	if b.t.Header == nil {
 		if err := unsavedError(path, sheet, nil, unsaved, 1, MaxSheetRows, nil, "in the sheet"); err != nil {
@@ -860,6 +836,49 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	}
 	b.t.unsaved = unsaved
 	return b.t, nil
+}
+
+// sheetRows reads the rows of a sheet of an input workbook in order,
+// numbered from 1 and as shown (inputBook.shown). Blank rows and the rows
+// that belong to no table (siteRow: comment rows, and above the header
+// the key rows of the site block, whose words it adds to meta) are passed
+// over; the first other row is the header and the rest are data rows.
+// each is given the header (header true) and then each data row, and may
+// stop the reading. It returns meta with the first error: each's, or a
+// ParseError where the sheet cannot be read.
+func (f *inputBook) sheetRows(path, sheet string, meta map[string]string, each func(n int, rec []string, header bool) (stop bool, err error)) (map[string]string, error) {
+	rows, err := f.Rows(sheet)
+	if err != nil {
+		return meta, &ParseError{File: path, Sheet: sheet, Err: err}
+	}
+	defer rows.Close()
+	headerRead := false
+	for n := 1; rows.Next(); n++ {
+		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
+		if err != nil {
+			return meta, &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
+		}
+		if blank(rec) {
+			continue
+		}
+		f.shown(sheet, n, rec)
+		if m, ok := siteRow(meta, rec, true, headerRead); ok {
+			meta = m
+			continue
+		}
+		stop, err := each(n, rec, !headerRead)
+		if err != nil {
+			return meta, err
+		}
+		headerRead = true
+		if stop {
+			break
+		}
+	}
+	if err := rows.Error(); err != nil {
+		return meta, &ParseError{File: path, Sheet: sheet, Err: err}
+	}
+	return meta, nil
 }
 
 func blank(rec []string) bool {

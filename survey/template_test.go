@@ -948,6 +948,23 @@ func TestTemplateShowsTypedDigits(t *testing.T) {
 	}
 }
 
+// instructionText is what the instructions sheet of template f says of
+// the last topic that is picks out ("" when none is).
+func instructionText(t *testing.T, f *excelize.File, is func(topic string) bool) string {
+	t.Helper()
+	instr, err := f.GetRows(survey.FieldSheetInstructions)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var text string
+	for _, r := range instr {
+		if len(r) > 1 && is(r[0]) {
+			text = r[1]
+		}
+	}
+	return text
+}
+
 // The template says what the reader does with the exclude column: each of
 // KeepWords, typed in a gauging's exclude cell, keeps the gauging, and the
 // gaugings sheet's instructions list every one of them (its help once
@@ -964,20 +981,11 @@ func TestTemplateExcludeKeepWords(t *testing.T) {
 		rows = append(rows, []any{d.Add(time.Duration(i) * time.Hour), 1 + 0.1*float64(i), 2 + float64(i), "good", nil, strings.ToUpper(w)})
 	}
 	fillSheet(t, f, survey.FieldSheetGaugings, headerRow(survey.FieldSheetGaugings)+1, rows)
-	instr, err := f.GetRows(survey.FieldSheetInstructions)
-	if err != nil {
-		t.Fatal(err)
-	}
+	text := instructionText(t, f, func(topic string) bool { return topic == survey.FieldSheetGaugings })
 	if err := f.Save(); err != nil {
 		t.Fatal(err)
 	}
 	f.Close()
-	var text string
-	for _, r := range instr {
-		if len(r) > 1 && r[0] == survey.FieldSheetGaugings {
-			text = r[1]
-		}
-	}
 	for _, w := range survey.KeepWords() {
 		if !strings.Contains(text, " "+w) {
 			t.Errorf("instructions of %s do not name %q: %q", survey.FieldSheetGaugings, w, text)
@@ -1008,20 +1016,11 @@ func TestTemplateBankWords(t *testing.T) {
 	}
 	fillSheet(t, f, survey.SectionSheetName(1), survey.SectionHeaderRow+1, [][]any{
 		{0, 5, 0.05, nil}, {4, 3, nil, "Left Top of Bank"}, {8, 0, 0.03, nil}, {12, 3, 0.05, "RB"}, {16, 5, nil, nil}})
-	instr, err := f.GetRows(survey.FieldSheetInstructions)
-	if err != nil {
-		t.Fatal(err)
-	}
+	text := instructionText(t, f, func(topic string) bool { return strings.HasPrefix(topic, survey.SectionSheetName(1)) })
 	if err := f.Save(); err != nil {
 		t.Fatal(err)
 	}
 	f.Close()
-	var text string
-	for _, r := range instr {
-		if len(r) > 1 && strings.HasPrefix(r[0], survey.SectionSheetName(1)) {
-			text = r[1]
-		}
-	}
 	for _, w := range survey.BankWords() {
 		if !strings.Contains(text, w) {
 			t.Errorf("instructions of the cross-section sheets do not name %q: %q", w, text)

@@ -223,11 +223,8 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("backwater", backwaterUsage)
 	var f backwaterFlags
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one REACH table"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("backwater: want one REACH table, got %d arguments", fs.NArg())
 	}
 	format, err := outputFormat("backwater", f.format, f.output, "text", "csv", "json", "xlsx")
 	if err != nil {

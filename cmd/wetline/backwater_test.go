@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"encoding/json"
-	"errors"
 	"image/png"
 	"math"
 	"os"
@@ -272,24 +271,7 @@ func TestBackwaterRefusals(t *testing.T) {
 			if tc.name == "xlsx to stdout" {
 				args = append([]string{"backwater", path}, tc.args...)
 			}
-			stdout, stderr, code := runCLI(t, args...)
-			if code != tc.code {
-				t.Fatalf("exit %d, want %d: %s", code, tc.code, stderr)
-			}
-			if !strings.Contains(stderr, tc.want) {
-				t.Errorf("stderr %q lacks %q", stderr, tc.want)
-			}
-			if stdout != "" {
-				t.Errorf("stdout %q", stdout)
-			}
-			for _, p := range []string{out, plots} {
-				if _, err := os.Stat(p); !errors.Is(err, os.ErrNotExist) {
-					t.Errorf("%s written: %v", p, err)
-				}
-			}
-			if n := strings.Count(strings.TrimSpace(stderr), "\n"); tc.code == 1 && n > 0 {
-				t.Errorf("want one line, got:\n%s", stderr)
-			}
+			checkRefused(t, args, tc.code, tc.want, out, plots)
 		})
 	}
 }

@@ -67,11 +67,8 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("compare", compareUsage)
 	var f compareFlags
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 2, "two files A and B (two ratings, or two surveys of one section)"); err != nil {
 		return err
-	}
-	if fs.NArg() != 2 {
-		return usagef("compare: want two files A and B (two ratings, or two surveys of one section), got %d arguments", fs.NArg())
 	}
 	format, err := outputFormat("compare", f.format, f.output, "text", "json", "csv", "xlsx")
 	if err != nil {

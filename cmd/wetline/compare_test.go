@@ -19,24 +19,12 @@ const (
 
 func TestCompareGolden(t *testing.T) {
 	t.Parallel()
-	for _, tc := range []struct {
-		name string
-		args []string
-	}{
+	checkRecordGoldens(t, []recordGolden{
 		{"compare-ratings.txt", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.2"}},
 		{"compare-ratings.csv", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.2", "--step", "0.25", "--format", "csv"}},
 		{"compare-sections.txt", []string{"compare", recSectionA, recSectionB, "--step", "0.5"}},
 		{"compare-sections.csv", []string{"compare", recSectionA, recSectionB, "--stages", "11,12", "--format", "csv"}},
-	} {
-		t.Run(tc.name, func(t *testing.T) {
-			t.Parallel()
-			out, errs, code := runCLI(t, tc.args...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, errs)
-			}
-			golden(t, filepath.Join("record", "golden", tc.name), out)
-		})
-	}
+	})
 }
 
 // TestCompareSectionsClosedForm: two trapezoids, A with a 4 m bottom at

@@ -111,11 +111,8 @@ func runFit(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("fit", fitUsage)
 	var f fitFlags
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one GAUGINGS file"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("fit: want one GAUGINGS file, got %d arguments", fs.NArg())
 	}
 	opt, err := f.options(fs)
 	if err != nil {

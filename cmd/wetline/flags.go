@@ -35,6 +35,19 @@ func newFlags(name, usage string) *flagSet {
 	return &flagSet{FlagSet: fs, usage: usage}
 }
 
+// parseOperands parses args as parse does and then wants exactly n
+// operands, which want describes ("one REACH table"): a usage error
+// "NAME: want WANT, got N arguments" otherwise.
+func (fs *flagSet) parseOperands(e *env, args []string, n int, want string) error {
+	if err := fs.parse(e, args); err != nil {
+		return err
+	}
+	if fs.NArg() != n {
+		return usagef("%s: want %s, got %d arguments", fs.Name(), want, fs.NArg())
+	}
+	return nil
+}
+
 // parse parses args; it prints help to stdout and returns errHelp for -h,
 // wraps parse errors as usage errors, and refuses a number flag given a
 // value that is not finite (NaN, Inf).

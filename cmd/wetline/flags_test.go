@@ -1,6 +1,8 @@
 package main
 
 import (
+	"bytes"
+	"errors"
 	"os"
 	"path/filepath"
 	"strings"
@@ -248,6 +250,34 @@ func TestEmptyOutputPath(t *testing.T) {
 		_, errs, code := runCLI(t, c.args...)
 		if code != 2 || !strings.Contains(errs, c.want) {
 			t.Errorf("%q: exit %d, want 2 and %q:\n%s", c.args, code, c.want, errs)
+		}
+	}
+}
+
+// TestOperandCount: a command given the wrong number of operands is a
+// usage error saying what it wants and how many it got.
+func TestOperandCount(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		args []string
+		want string
+	}{
+		{[]string{"backwater", "a", "b"}, "backwater: want one REACH table, got 2 arguments"},
+		{[]string{"slopearea"}, "slopearea: want one REACH table, got 0 arguments"},
+		{[]string{"compare", "a"}, "compare: want two files A and B (two ratings, or two surveys of one section), got 1 arguments"},
+		{[]string{"fit", "a", "b"}, "fit: want one GAUGINGS file, got 2 arguments"},
+		{[]string{"shifts"}, "shifts: want one GAUGINGS file, got 0 arguments"},
+		{[]string{"record", "a", "b", "c"}, "record: want one STAGES file (time and stage columns), got 3 arguments"},
+		{[]string{"plot"}, "plot: want one TABLE file (a rating CSV written by 'wetline rate'), got 0 arguments"},
+		{[]string{"project"}, "project: want one SURVEY file of eastings, northings and elevations, got 0 arguments"},
+		{[]string{"shape"}, "shape: want one SPEC ("},
+	}
+	for _, tc := range cases {
+		var out bytes.Buffer
+		err := runArgs(t, newEnv(&out, &out, commandTable()), tc.args...)
+		var ue usageError
+		if !errors.As(err, &ue) || !strings.HasPrefix(err.Error(), tc.want) {
+			t.Errorf("%q: err %v, want a usage error %q", tc.args, err, tc.want)
 		}
 	}
 }

@@ -27,6 +27,31 @@ func runCLI(t testing.TB, args ...string) (string, string, int) {
 	return out.String(), errb.String(), code
 }
 
+// checkRefused runs a command line that must be refused: exit status
+// code, want in what it says on standard error, nothing on standard
+// output, none of outputs written, and (status 1, bad input) one line.
+func checkRefused(t *testing.T, args []string, code int, want string, outputs ...string) {
+	t.Helper()
+	stdout, stderr, got := runCLI(t, args...)
+	if got != code {
+		t.Fatalf("exit %d, want %d: %s", got, code, stderr)
+	}
+	if !strings.Contains(stderr, want) {
+		t.Errorf("stderr %q lacks %q", stderr, want)
+	}
+	if stdout != "" {
+		t.Errorf("stdout %q", stdout)
+	}
+	for _, p := range outputs {
+		if _, err := os.Stat(p); !errors.Is(err, os.ErrNotExist) {
+			t.Errorf("%s written: %v", p, err)
+		}
+	}
+	if n := strings.Count(strings.TrimSpace(stderr), "\n"); code == 1 && n > 0 {
+		t.Errorf("want one line, got:\n%s", stderr)
+	}
+}
+
 // golden compares got with testdata/name, rewriting it with -update.
 func golden(t *testing.T, name, got string) {
 	t.Helper()

@@ -59,11 +59,8 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("plot", plotUsage)
 	var f plotFlags
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one TABLE file (a rating CSV written by 'wetline rate')"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("plot: want one TABLE file (a rating CSV written by 'wetline rate'), got %d arguments", fs.NArg())
 	}
 	u, err := f.unitSystem()
 	if err != nil {

@@ -27,11 +27,8 @@ func runProject(ctx context.Context, e *env, args []string) error {
 	fs.output(outputFile, "output")
 	fs.output(outputFolder, "plots")
 	site := fs.String("site", "", siteUsage)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one SURVEY file of eastings, northings and elevations"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("project: want one SURVEY file of eastings, northings and elevations, got %d arguments", fs.NArg())
 	}
 	f, err := outputFormat("project", *format, *out, "csv", "json")
 	if err != nil {

@@ -407,11 +407,8 @@ func runRecord(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("record", recordUsage)
 	f := recordFlags{historyFlags: historyFlags{cmd: "record"}}
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one STAGES file (time and stage columns)"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("record: want one STAGES file (time and stage columns), got %d arguments", fs.NArg())
 	}
 	format, err := outputFormat("record", f.format, f.output, "text", "json", "csv", "xlsx")
 	if err != nil {

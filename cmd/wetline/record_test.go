@@ -38,18 +38,18 @@ func recordArgs(extra ...string) []string {
 	return append(args, extra...)
 }
 
-func TestRecordGolden(t *testing.T) {
-	t.Parallel()
-	for _, tc := range []struct {
-		name string
-		args []string
-	}{
-		{"record.txt", recordArgs()},
-		{"record-unit.txt", recordArgs("--unit", "--utc-offset", "+10:00")},
-		{"record-daily.csv", recordArgs("--format", "csv")},
-		{"record-unit.csv", recordArgs("--unit", "--format", "csv")},
-		{"record.json", recordArgs("--format", "json")},
-	} {
+// recordGolden is a command line whose standard output is the golden
+// file testdata/record/golden/NAME.
+type recordGolden struct {
+	name string
+	args []string
+}
+
+// checkRecordGoldens runs each command line in a parallel subtest named
+// by its golden file and checks what it writes against that file.
+func checkRecordGoldens(t *testing.T, cases []recordGolden) {
+	t.Helper()
+	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
 			out, errs, code := runCLI(t, tc.args...)
@@ -59,6 +59,17 @@ func TestRecordGolden(t *testing.T) {
 			golden(t, filepath.Join("record", "golden", tc.name), out)
 		})
 	}
+}
+
+func TestRecordGolden(t *testing.T) {
+	t.Parallel()
+	checkRecordGoldens(t, []recordGolden{
+		{"record.txt", recordArgs()},
+		{"record-unit.txt", recordArgs("--unit", "--utc-offset", "+10:00")},
+		{"record-daily.csv", recordArgs("--format", "csv")},
+		{"record-unit.csv", recordArgs("--unit", "--format", "csv")},
+		{"record.json", recordArgs("--format", "json")},
+	})
 }
 
 // jsonKeys returns the keys of a JSON object in the order written.
@@ -660,16 +671,13 @@ func TestRecordGaugeStages(t *testing.T) {
 	}
 }
 
-// TestRecordExcludedGaugings: a gauging left out by its exclude column is
-// marked x in the record's gauging table, listed with its reason and not
-// counted outside its band (it is outside: -13.1 % of a good gauging's
-// 5 % band, in record.txt).
-func TestRecordExcludedGaugings(t *testing.T) {
-	t.Parallel()
-	dir := t.TempDir()
-	gs := filepath.Join(dir, "gaugings.csv")
-	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality,exclude\n"+
-		"2024-05-01T09:00,0.84,4.10,good,\n2024-05-01T12:00,1.12,7.60,fair,\n2024-05-02T11:00,0.60,1.95,good,meter spin test failed\n"), 0o644); err != nil {
+// recordAgainst runs the record of recordArgs checked against the
+// gaugings CSV body instead of the test gaugings, and returns its report;
+// a run that fails fails t.
+func recordAgainst(t *testing.T, body string) string {
+	t.Helper()
+	gs := filepath.Join(t.TempDir(), "gaugings.csv")
+	if err := os.WriteFile(gs, []byte(body), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	args := recordArgs()
@@ -682,6 +690,17 @@ func TestRecordExcludedGaugings(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
+	return out
+}
+
+// TestRecordExcludedGaugings: a gauging left out by its exclude column is
+// marked x in the record's gauging table, listed with its reason and not
+// counted outside its band (it is outside: -13.1 % of a good gauging's
+// 5 % band, in record.txt).
+func TestRecordExcludedGaugings(t *testing.T) {
+	t.Parallel()
+	out := recordAgainst(t, "time,stage,discharge,quality,exclude\n"+
+		"2024-05-01T09:00,0.84,4.10,good,\n2024-05-01T12:00,1.12,7.60,fair,\n2024-05-02T11:00,0.60,1.95,good,meter spin test failed\n")
 	for _, want := range []string{"-13.1x", "0 of 3 gaugings (1 excluded) lie outside their quality bands from the record",
 		"excluded, never counted outside its band: 2024-05-02T11:00:00Z, meter spin test failed"} {
 		if !strings.Contains(out, want) {
@@ -861,20 +880,7 @@ func TestRecordMissingReadings(t *testing.T) {
 // invented (0.84 m, 4.10 m3/s, as in TestRecordExcludedGaugings).
 func TestRecordOneGaugingCounted(t *testing.T) {
 	t.Parallel()
-	gs := filepath.Join(t.TempDir(), "gaugings.csv")
-	if err := os.WriteFile(gs, []byte("time,stage,discharge,quality\n2024-05-01T09:00,0.84,4.10,good\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	args := recordArgs()
-	for i, a := range args {
-		if a == recGaugings {
-			args[i] = gs
-		}
-	}
-	out, errs, code := runCLI(t, args...)
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errs)
-	}
+	out := recordAgainst(t, "time,stage,discharge,quality\n2024-05-01T09:00,0.84,4.10,good\n")
 	if !strings.Contains(out, "  the 1 gauging does not lie outside its quality band from the record\n") ||
 		!strings.Contains(out, "  the 1 gauge height does not differ from the recorded stage by more than ") || strings.Contains(out, "of 1 gauging") {
 		t.Errorf("record report:\n%s", out)

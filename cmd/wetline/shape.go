@@ -24,11 +24,8 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	out := fs.StringP("output", "o", "", "output file (.csv; default: standard output)")
 	fs.output(outputFile, "output")
 	site := fs.String("site", "", "the site's name, written as the survey's site key")
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, fmt.Sprintf("one SPEC (%s)", subdivide.ShapeForms)); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("shape: want one SPEC (%s), got %d arguments", subdivide.ShapeForms, fs.NArg())
 	}
 	if _, err := outputFormat("shape", "", *out, "csv"); err != nil {
 		return err

@@ -47,11 +47,8 @@ func runShifts(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("shifts", shiftsUsage)
 	f := shiftsFlags{historyFlags: historyFlags{cmd: "shifts"}}
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one GAUGINGS file"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("shifts: want one GAUGINGS file, got %d arguments", fs.NArg())
 	}
 	format, err := outputFormat("shifts", f.format, f.output, "text", "json", "csv", "xlsx")
 	if err != nil {

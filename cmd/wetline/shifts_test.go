@@ -23,24 +23,12 @@ func shiftsArgs(extra ...string) []string {
 
 func TestShiftsGolden(t *testing.T) {
 	t.Parallel()
-	for _, tc := range []struct {
-		name string
-		args []string
-	}{
+	checkRecordGoldens(t, []recordGolden{
 		{"shifts.txt", shiftsArgs()},
 		{"shifts-applied.txt", shiftsArgs("--shifts", recShifts, "--utc-offset", "-05:00")},
 		{"shifts.csv", shiftsArgs("--format", "csv")},
 		{"shifts.json", shiftsArgs("--shifts", recShifts, "--format", "json")},
-	} {
-		t.Run(tc.name, func(t *testing.T) {
-			t.Parallel()
-			out, errs, code := runCLI(t, tc.args...)
-			if code != 0 {
-				t.Fatalf("exit %d: %s", code, errs)
-			}
-			golden(t, filepath.Join("record", "golden", tc.name), out)
-		})
-	}
+	})
 }
 
 // TestShiftsJSONKeys: the check's JSON keys come in their documented

@@ -135,11 +135,8 @@ func runSlopeArea(ctx context.Context, e *env, args []string) error {
 	fs := newFlags("slopearea", slopeAreaUsage)
 	var f slopeAreaFlags
 	f.register(fs)
-	if err := fs.parse(e, args); err != nil {
+	if err := fs.parseOperands(e, args, 1, "one REACH table"); err != nil {
 		return err
-	}
-	if fs.NArg() != 1 {
-		return usagef("slopearea: want one REACH table, got %d arguments", fs.NArg())
 	}
 	format, err := outputFormat("slopearea", f.format, f.output, "text", "json", "xlsx")
 	if err != nil {

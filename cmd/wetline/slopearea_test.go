@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"encoding/json"
-	"errors"
 	"fmt"
 	"image/png"
 	"math"
@@ -124,22 +123,7 @@ func TestSlopeAreaBadReach(t *testing.T) {
 			}
 			out := filepath.Join(dir, "out.json")
 			args := append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "-o", out}, tc.flags...)
-			stdout, stderr, code := runCLI(t, args...)
-			if code != tc.code {
-				t.Fatalf("exit %d, want %d: %s", code, tc.code, stderr)
-			}
-			if !strings.Contains(stderr, tc.want) {
-				t.Errorf("stderr %q lacks %q", stderr, tc.want)
-			}
-			if stdout != "" {
-				t.Errorf("stdout %q", stdout)
-			}
-			if _, err := os.Stat(out); !errors.Is(err, os.ErrNotExist) {
-				t.Errorf("output written: %v", err)
-			}
-			if n := strings.Count(strings.TrimSpace(stderr), "\n"); tc.code == 1 && n > 0 {
-				t.Errorf("want one line, got:\n%s", stderr)
-			}
+			checkRefused(t, args, tc.code, tc.want, out)
 		})
 	}
 }

@@ -28,8 +28,22 @@ const (
 // stage at the lowest point (as fit reads a rating table written by rate).
 func tableOf(t *testing.T, c rating.HydraulicCurve, step float64) *gauged.TableRating {
 	t.Helper()
-	rt := gauged.RatingTable{Name: "test-rating", HasZeroFlow: true, ZeroFlow: c.Bottom()}
-	for h := c.Bottom(); h <= c.Top()+1e-9; h += step {
+	return sectionTable(t, c, gauged.RatingTable{Name: "test-rating", HasZeroFlow: true, ZeroFlow: c.Bottom()}, c.Bottom(), c.Top(), step)
+}
+
+// ladderOf returns a section's hydraulic rating as a table that starts
+// wet at from and stops at to, in steps of step, with no zero-flow stage:
+// a step-backwater ladder.
+func ladderOf(t *testing.T, c rating.HydraulicCurve, from, to, step float64) *gauged.TableRating {
+	t.Helper()
+	return sectionTable(t, c, gauged.RatingTable{Name: "ladder"}, from, to, step)
+}
+
+// sectionTable adds to rt the section's discharge at gauge heights from
+// from to to in steps of step, and compiles it.
+func sectionTable(t *testing.T, c rating.HydraulicCurve, rt gauged.RatingTable, from, to, step float64) *gauged.TableRating {
+	t.Helper()
+	for h := from; h <= to+1e-9; h += step {
 		q, err := c.Discharge(h)
 		if err != nil {
 			t.Fatal(err)
@@ -80,18 +94,7 @@ func TestTablePriorMatchesSection(t *testing.T) {
 // ErrPrior.
 func TestTablePriorPartCovered(t *testing.T) {
 	c := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
-	rt := gauged.RatingTable{Name: "ladder"}
-	for h := 0.8; h <= 2.0+1e-9; h += 0.02 {
-		q, err := c.Discharge(h)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rt.Points = append(rt.Points, gauged.RatingPoint{Stage: h, Discharge: q})
-	}
-	tab, err := rt.Compile()
-	if err != nil {
-		t.Fatal(err)
-	}
+	tab := ladderOf(t, c, 0.8, 2.0, 0.02)
 	opt := gauged.HydraulicPriorOptions{OffsetFixed: true, Offset: 0}
 	lo, hi := tab.Range()
 	want, err := gauged.HydraulicPrior(c, lo, hi, opt)
@@ -377,18 +380,7 @@ func TestUncertaintyConvention(t *testing.T) {
 // gaugings are the section's own rating).
 func TestBayesWetTablePrior(t *testing.T) {
 	c := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
-	rt := gauged.RatingTable{Name: "ladder"}
-	for h := 0.8; h <= 2.0+1e-9; h += 0.05 {
-		q, err := c.Discharge(h)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rt.Points = append(rt.Points, gauged.RatingPoint{Stage: h, Discharge: q})
-	}
-	tab, err := rt.Compile()
-	if err != nil {
-		t.Fatal(err)
-	}
+	tab := ladderOf(t, c, 0.8, 2.0, 0.05)
 	gs := gaugeTruth(t, c, linspace(0.3, 2.4, 14), nil)
 	f, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: []gauged.ControlSpec{{Kind: gauged.ChannelControl}}},
 		HydraulicTable: tab, Chains: 2, Draws: 500, Seed: 1})

@@ -242,13 +242,20 @@ func (r Rating) segment(h float64) int {
 	return j
 }
 
+// base returns the control that the controls base+1..j add to: j itself
+// unless it joins by Add, else the nearest control below it that replaces
+// (or the first control).
+func (r Rating) base(j int) int {
+	for j > 0 && r.Controls[j].Joint == Add {
+		j--
+	}
+	return j
+}
+
 // upTo evaluates the rating of controls 0..j at h, carrying control j's
 // formula on beyond its range (h above the first offset).
 func (r Rating) upTo(j int, h float64) float64 {
-	base := j
-	for base > 0 && r.Controls[base].Joint == Add {
-		base--
-	}
+	base := r.base(j)
 	c := r.Controls[base]
 	q := 0.0
 	if h > c.B {
@@ -266,10 +273,7 @@ func (r Rating) upTo(j int, h float64) float64 {
 // summed in logarithms, so that it stays finite where (h − B)^C
 // overflows; −Inf where upTo is zero.
 func (r Rating) logUpTo(j int, h float64) float64 {
-	base := j
-	for base > 0 && r.Controls[base].Joint == Add {
-		base--
-	}
+	base := r.base(j)
 	c := r.Controls[base]
 	l := math.Inf(-1)
 	if h > c.B {

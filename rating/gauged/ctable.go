@@ -526,23 +526,11 @@ func LookupControlRows(t *ControlTable) ([]ControlRow, error) {
 		return nil, nil
 	}
 	lo, hi := t.Rows[0].Stage, t.Rows[len(t.Rows)-1].Stage
-	stages, err := rating.LookupStages(lo, hi)
-	if err != nil {
-		return nil, err
-	}
-	out := make([]ControlRow, 0, len(stages))
-	for _, h := range stages {
-		if h < lo-lookupEdge {
-			continue // below the offset: no flow, left blank
-		}
+	return lookupAt(lo, hi, func(h float64) (ControlRow, error) {
 		row, err := t.row(math.Min(math.Max(h, lo), hi), false)
-		if err != nil {
-			return nil, err
-		}
 		row.Stage = h
-		out = append(out, row)
-	}
-	return out, nil
+		return row, err
+	})
 }
 
 // Band returns the fitted rating's 95 % bands at gauge height h (without

@@ -9,21 +9,30 @@ import (
 	"wetline/rating/gauged"
 )
 
-// The lookup table: the fit between the gaugings, the fit down to e below
-// them, the hydraulic rating scaled to meet the fit at the highest gauging
-// above them, and nothing past the section's lower end.
-func TestLookupTable(t *testing.T) {
+// scaledLookup is the lookup table of a fit to gaugings of a compound
+// section in its channel (1.0 to 2.4 m, below the banks at 2.5, e = 0.5
+// fixed by a survey control), with the section's hydraulic rating c at
+// 1.2 times the truth's n above them; f is the fit.
+func scaledLookup(t *testing.T) (f *gauged.Fit, c rating.HydraulicCurve, tab gauged.FitTable) {
+	t.Helper()
 	truth := compound(t, 0.030, 0.060)
-	gs := sample(t, truth, linspace(1.0, 2.4, 12)) // in the channel, below the banks at 2.5
+	gs := sample(t, truth, linspace(1.0, 2.4, 12))
 	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-	tab, err := gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, Step: 0.1})
-	if err != nil {
+	c = rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	if tab, err = gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, Step: 0.1}); err != nil {
 		t.Fatal(err)
 	}
+	return f, c, tab
+}
+
+// The lookup table: the fit between the gaugings, the fit down to e below
+// them, the hydraulic rating scaled to meet the fit at the highest gauging
+// above them, and nothing past the section's lower end.
+func TestLookupTable(t *testing.T) {
+	f, c, tab := scaledLookup(t)
 	// Conveyance ∝ 1/n (Chow, 1959, eq. 6-9): the survey's n is 1.2 times
 	// the truth, so the hydraulic rating is 1/1.2 of the truth, and the fit
 	// (a power law through the truth) meets it with a factor near 1.2.
@@ -71,17 +80,7 @@ func TestLookupTable(t *testing.T) {
 // the table was laid out with), follows the same three pieces between
 // rows, and refuses stages outside the table.
 func TestFitTableAt(t *testing.T) {
-	truth := compound(t, 0.030, 0.060)
-	gs := sample(t, truth, linspace(1.0, 2.4, 12))
-	f, err := gauged.FitPowerLaw(gs, gauged.FitOptions{ZeroFlowFixed: true, ZeroFlow: 0.5, ZeroFlowSource: "survey control"})
-	if err != nil {
-		t.Fatal(err)
-	}
-	c := rating.HydraulicCurve{Geometry: compound(t, 0.036, 0.072), Options: rating.Options{Slope: 0.001}, Datum: 9.5}
-	tab, err := gauged.LookupTable(f, gauged.TableOptions{Hydraulic: &c, Step: 0.1})
-	if err != nil {
-		t.Fatal(err)
-	}
+	f, c, tab := scaledLookup(t)
 	same := func(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
 	for _, r := range tab.Rows {
 		got, err := tab.At(f, &c, r.Stage)

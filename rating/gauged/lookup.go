@@ -16,17 +16,28 @@ func LookupRows(f *Fit, c *rating.HydraulicCurve, t *FitTable) ([]FitRow, error)
 	if f == nil || t == nil || len(t.Rows) == 0 {
 		return nil, nil
 	}
-	lo, hi := t.Rows[0].Stage, t.Rows[len(t.Rows)-1].Stage
+	lo := t.Rows[0].Stage
+	return lookupAt(lo, t.Rows[len(t.Rows)-1].Stage, func(h float64) (FitRow, error) {
+		return t.At(f, c, math.Max(h, lo))
+	})
+}
+
+// lookupAt evaluates at every hundredth of stage from lo (a table's first
+// row, its gauge height of zero flow or first offset) to hi, for a printed
+// lookup sheet (rating.LookupStages): the hundredths below lo are left out
+// (no flow, left blank). at gives the row of a hundredth; its first error
+// is returned alone.
+func lookupAt[R any](lo, hi float64, at func(h float64) (R, error)) ([]R, error) {
 	stages, err := rating.LookupStages(lo, hi)
 	if err != nil {
 		return nil, err
 	}
-	out := make([]FitRow, 0, len(stages))
+	out := make([]R, 0, len(stages))
 	for _, h := range stages {
 		if h < lo-lookupEdge {
-			continue // below e: no flow, left blank
+			continue
 		}
-		row, err := t.At(f, c, math.Max(h, lo))
+		row, err := at(h)
 		if err != nil {
 			return nil, err
 		}

@@ -114,13 +114,7 @@ func (o BackwaterOptions) eddy() (exp, con float64, err error) {
 }
 
 func (o BackwaterOptions) spreadTolerance() float64 {
-	switch {
-	case o.SpreadTolerance > 0:
-		return o.SpreadTolerance
-	case o.Units == rating.US:
-		return SpreadToleranceUS
-	}
-	return SpreadToleranceSI
+	return givenOr(o.SpreadTolerance, o.Units, SpreadToleranceSI, SpreadToleranceUS)
 }
 
 // Backwater is the result of a step-backwater computation: a water-surface

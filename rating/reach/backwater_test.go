@@ -918,6 +918,21 @@ func TestBackwaterNoExtendNamesTop(t *testing.T) {
 	}
 }
 
+// wantOneWarning checks the warnings that about picks out: none when want
+// is "", else exactly one, starting with want.
+func wantOneWarning(t *testing.T, warnings []string, about func(string) bool, want string) {
+	t.Helper()
+	var got []string
+	for _, w := range warnings {
+		if about(w) {
+			got = append(got, w)
+		}
+	}
+	if want == "" && len(got) > 0 || want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], want)) {
+		t.Errorf("warnings %q, want %q", got, want)
+	}
+}
+
 // An overbank flow length more than OverbankLengthRatio times the
 // distance between the sections, or less than its inverse, is warned,
 // naming the section, the side and both lengths; one within, or one not
@@ -943,15 +958,7 @@ func TestBackwaterOverbankLengthWarning(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			var got []string
-			for _, w := range res.Warnings {
-				if strings.Contains(w, "to the next section is") {
-					got = append(got, w)
-				}
-			}
-			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
-				t.Errorf("overbank warnings %q, want %q", got, tc.want)
-			}
+			wantOneWarning(t, res.Warnings, func(w string) bool { return strings.Contains(w, "to the next section is") }, tc.want)
 		})
 	}
 }
@@ -985,15 +992,7 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			var got []string
-			for _, w := range res.Warnings {
-				if strings.HasPrefix(w, "the rating is at section") {
-					got = append(got, w)
-				}
-			}
-			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
-				t.Errorf("warnings %q, want %q", got, tc.want)
-			}
+			wantOneWarning(t, res.Warnings, func(w string) bool { return strings.HasPrefix(w, "the rating is at section") }, tc.want)
 			if tc.b.Kind == KnownStage && tc.at == last {
 				flat := 0
 				for i, rd := range res.Rating.Rows {
@@ -1068,15 +1067,7 @@ func TestBackwaterNoBanksFlowLengths(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			var got []string
-			for _, w := range res.Warnings {
-				if strings.Contains(w, "bank marks") {
-					got = append(got, w)
-				}
-			}
-			if tc.want == "" && len(got) > 0 || tc.want != "" && (len(got) != 1 || !strings.HasPrefix(got[0], tc.want)) {
-				t.Errorf("warnings %q, want %q", got, tc.want)
-			}
+			wantOneWarning(t, res.Warnings, func(w string) bool { return strings.Contains(w, "bank marks") }, tc.want)
 		})
 	}
 	// The length of X0 to X1 with X1 all channel: ½·(weighted at X0 + 220).

@@ -153,23 +153,24 @@ type SlopeAreaOptions struct {
 }
 
 func (o SlopeAreaOptions) markSpread() float64 {
-	if o.MarkSpread > 0 {
-		return o.MarkSpread
-	}
-	if o.Units == rating.US {
-		return MarkSpreadUS
-	}
-	return MarkSpreadSI
+	return givenOr(o.MarkSpread, o.Units, MarkSpreadSI, MarkSpreadUS)
 }
 
 func (o SlopeAreaOptions) minFall() float64 {
-	if o.MinFall > 0 {
-		return o.MinFall
+	return givenOr(o.MinFall, o.Units, MinFallSI, MinFallUS)
+}
+
+// givenOr returns v, a tolerance given in the options, when it is
+// positive, and otherwise the default for the unit system u: us for
+// rating.US, si for any other.
+func givenOr(v float64, u rating.Units, si, us float64) float64 {
+	switch {
+	case v > 0:
+		return v
+	case u == rating.US:
+		return us
 	}
-	if o.Units == rating.US {
-		return MinFallUS
-	}
-	return MinFallSI
+	return si
 }
 
 // Methods reported in SlopeArea.Method.

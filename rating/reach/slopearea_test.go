@@ -290,13 +290,19 @@ func TestSlopeAreaSides(t *testing.T) {
 	}
 }
 
-func TestSlopeAreaChecks(t *testing.T) {
-	// Marks 0.3 m apart at A (tolerance 0.15 m), an expanding subreach, a
-	// short reach (L = 60 m against 75 × about 1.9 m).
-	secs := []Section{
+// checkedReach is a reach that fails most checks: marks 0.3 m apart at A
+// (tolerance 0.15 m), an expanding subreach, a short reach (L = 60 m
+// against 75 × about 1.9 m).
+func checkedReach(t *testing.T) []Section {
+	t.Helper()
+	return []Section{
 		{ID: "A", Geometry: saTrapezoid(t, 8, 0, 10, 5, 0.035), Distance: 0, Left: 12.15, Right: 11.85},
 		{ID: "B", Geometry: saTrapezoid(t, 12, 0, 9.9, 5, 0.035), Distance: 60, Left: 11.9, Right: 11.9},
 	}
+}
+
+func TestSlopeAreaChecks(t *testing.T) {
+	secs := checkedReach(t)
 	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -341,10 +347,7 @@ func TestSlopeAreaChecks(t *testing.T) {
 // to (1/0.7, the symmetric reading of Dalrymple and Benson's 0.7, printed
 // to four figures as every value is).
 func TestSlopeAreaCheckWording(t *testing.T) {
-	secs := []Section{
-		{ID: "A", Geometry: saTrapezoid(t, 8, 0, 10, 5, 0.035), Distance: 0, Left: 12.15, Right: 11.85},
-		{ID: "B", Geometry: saTrapezoid(t, 12, 0, 9.9, 5, 0.035), Distance: 60, Left: 11.9, Right: 11.9},
-	}
+	secs := checkedReach(t)
 	res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
 	if err != nil {
 		t.Fatal(err)

@@ -408,16 +408,7 @@ func saSigned3(v float64) string {
 func jsonRows(t rating.Table) []jsonRow {
 	rows := make([]jsonRow, len(t.Rows))
 	for i, r := range t.Rows {
-		jr := jsonRow{
-			Stage: Float(r.Stage), Depth: Float(r.Depth), Area: Float(r.Area),
-			WettedPerimeter: Float(r.WettedPerimeter), TopWidth: Float(r.TopWidth),
-			HydraulicRadius: Float(r.HydraulicRadius), Conveyance: Float(r.Conveyance),
-			Discharge: Float(r.Discharge), MeanVelocity: Float(r.MeanVelocity),
-			Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
-			Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
-			Subsections: jsonSubs(r.Subs), Flags: nonNil(r.Flags),
-		}
-		rows[i] = jr
+		rows[i] = ratingJSONRow(r)
 	}
 	return rows
 }

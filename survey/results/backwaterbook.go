@@ -38,19 +38,12 @@ const (
 func WriteBackwaterWorkbook(w io.Writer, rep reach.BackwaterReport) error {
 	b := newBook("step-backwater", rep.Provenance.Site, bwReachName(rep))
 	defer b.Close()
-	for _, write := range []func(*workbook.Book, reach.BackwaterReport) error{
+	if err := writeSheets(b, rep,
 		writeBWSummary, writeBWRating, writeBWConvergence, writeBWProfiles, writeBWSubsections, writeBWVerification,
-	} {
-		if err := write(b, rep); err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // bwReachName names the reach table read ("reach" when built in code).
@@ -147,10 +140,8 @@ func writeBWConvergence(b *workbook.Book, rep reach.BackwaterReport) error {
 		}
 		vals := []any{rd.Discharge, rd.Stage, second, halfway, rd.Spread, yes(rd.Critical), yes(rd.Unsettled)}
 		if rd.Unsettled {
-			for k := range vals {
-				if vals[k], err = b.Marked(cols[k].Format, vals[k]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {
@@ -234,10 +225,8 @@ func writeBWVerification(b *workbook.Book, rep reach.BackwaterReport) error {
 		vals := []any{m.ID, m.Distance, m.Left, m.Right, m.Mark, m.WaterSurface, m.Departure, m.LeftDeparture,
 			m.RightDeparture, m.Band, yes(m.Outside)}
 		if m.Outside {
-			for k := range vals {
-				if vals[k], err = b.Marked(cols[k].Format, vals[k]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {

@@ -158,18 +158,6 @@ func extrapolationWords(c *gauged.RatingComparison) string {
 	return "neither table's highest gauging is known"
 }
 
-// writeTextEnd writes the warnings and the caution at the end of a text
-// report.
-func writeTextEnd(bw *bufio.Writer, warnings []string) {
-	if len(warnings) > 0 {
-		bw.WriteString("\n")
-		for _, s := range warnings {
-			fmt.Fprintf(bw, "warning: %s\n", s)
-		}
-	}
-	fmt.Fprintf(bw, "\ncaution: %s\n", rating.Caution)
-}
-
 // WriteRatingComparisonWorkbook writes a comparison of two ratings as a
 // workbook: summary (both ratings, the range, the largest difference,
 // warnings, caution), comparison (RatingComparisonColumns() with units)
@@ -213,12 +201,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 	if err := s.Flush(); err != nil {
 		return err
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // sectionValues are the cells of a section comparison row, in the order
@@ -367,12 +350,7 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 	if err := s.Flush(); err != nil {
 		return err
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // WriteComparisonSummary says that a comparison was written to path.

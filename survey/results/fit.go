@@ -589,13 +589,7 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	if t := r.Table; t != nil {
 		writeTableRows(p, r, t)
 	}
-	if len(r.Warnings) > 0 {
-		p("\n")
-		for _, s := range r.Warnings {
-			p("warning: %s\n", s)
-		}
-	}
-	p("\ncaution: %s\n", rating.Caution)
+	writeTextEnd(bw, r.Warnings)
 	return bw.Flush()
 }
 

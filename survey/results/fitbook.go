@@ -98,12 +98,7 @@ func WriteFitWorkbook(w io.Writer, r *gauged.Report) error {
 			return err
 		}
 	}
-	if len(r.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(r.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, r.Figures)
 }
 
 // fitClock is a gauging's time for a date cell of a fit workbook: the wall
@@ -386,10 +381,8 @@ func writeMarkedRows(b *workbook.Book, name string, cols []workbook.Column, rows
 	for _, row := range rows {
 		vals := values(row)
 		if row.Extrapolated() {
-			for i, v := range vals {
-				if vals[i], err = b.Marked(cols[i].Format, v); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals); err != nil {
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {

@@ -198,6 +198,33 @@ func pictures(figs []rating.Figure) []workbook.Picture {
 	return out
 }
 
+// writeTextEnd writes the warnings and the caution at the end of a text
+// report.
+func writeTextEnd(bw *bufio.Writer, warnings []string) {
+	if len(warnings) > 0 {
+		bw.WriteString("\n")
+		for _, s := range warnings {
+			fmt.Fprintf(bw, "warning: %s\n", s)
+		}
+	}
+	fmt.Fprintf(bw, "\ncaution: %s\n", rating.Caution)
+}
+
+// markCells puts the cells of a sheet row, vals from its first column on,
+// in the marked style, each keeping its column's number format (cols): a
+// row the sheet singles out (extrapolated, unsettled, outside its band,
+// failing a check).
+func markCells(b *workbook.Book, cols []workbook.Column, vals []any) error {
+	for i, v := range vals {
+		m, err := b.Marked(cols[i].Format, v)
+		if err != nil {
+			return err
+		}
+		vals[i] = m
+	}
+	return nil
+}
+
 // jsonSite is a site in JSON; absent (null) when nothing is known.
 type jsonSite struct {
 	Name     string `json:"name"`

@@ -185,24 +185,15 @@ func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 
 // ratingJSONRow lays out one row of a rating table in JSON.
 func ratingJSONRow(r rating.Row) jsonRow {
-	jr := jsonRow{
+	return jsonRow{
 		Stage: Float(r.Stage), Depth: Float(r.Depth), Area: Float(r.Area),
 		WettedPerimeter: Float(r.WettedPerimeter), TopWidth: Float(r.TopWidth),
 		HydraulicRadius: Float(r.HydraulicRadius), Conveyance: Float(r.Conveyance),
 		Discharge: Float(r.Discharge), MeanVelocity: Float(r.MeanVelocity),
 		Alpha: Float(r.Alpha), Froude: Float(r.Froude), HydraulicDepth: Float(r.HydraulicDepth),
 		Beta: Float(r.Beta), ShearStress: Float(r.ShearStress),
-		Subsections: make([]jsonSub, len(r.Subs)),
-		Flags:       nonNil(r.Flags),
+		Subsections: jsonSubs(r.Subs), Flags: nonNil(r.Flags),
 	}
-	for j, s := range r.Subs {
-		jr.Subsections[j] = jsonSub{
-			FromStation: Float(s.From), ToStation: Float(s.To), Region: s.Region.String(), N: Float(s.N),
-			Area: Float(s.Area), WettedPerimeter: Float(s.WettedPerimeter), TopWidth: Float(s.TopWidth),
-			Conveyance: Float(s.Conveyance), Discharge: Float(s.Discharge), MeanVelocity: Float(s.Velocity),
-		}
-	}
-	return jr
 }
 
 // stageDecimals returns the decimals a table's stages and depths are shown
@@ -277,9 +268,5 @@ func WriteRatingText(w io.Writer, rep rating.RatingReport) error {
 	bw.WriteByte('\n')
 	writeMainColumnsText(bw, t)
 	bw.WriteByte('\n')
-	for _, s := range warnings {
-		fmt.Fprintln(bw, "warning: "+s)
-	}
-	fmt.Fprintln(bw, "caution: "+rating.Caution)
-	return bw.Flush()
+	return endSummary(bw, warnings)
 }

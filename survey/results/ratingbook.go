@@ -87,12 +87,7 @@ func WriteRatingWorkbook(w io.Writer, rep rating.RatingReport) error {
 			return err
 		}
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // reportedStations returns a copy of sec whose stations and bank
@@ -316,14 +311,24 @@ func WriteSubsectionSheet(b *workbook.Book, name string, t rating.Table) error {
 		return err
 	}
 	for _, r := range t.Rows {
-		for i, sr := range r.Subs {
-			if err := s.Row(r.Stage, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
-				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
-				return err
-			}
+		if err := writeSubsectionRows(s, r.Stage, r.Subs); err != nil {
+			return err
 		}
 	}
 	return s.Flush()
+}
+
+// writeSubsectionRows writes the subsections of one stage or section as
+// rows of subsectionColumns, each after key (the stage, or the section's
+// id) and numbered from 1.
+func writeSubsectionRows(s *reportSheet, key any, subs []rating.SubRow) error {
+	for i, sr := range subs {
+		if err := s.Row(key, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
+			sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // SummaryColumns returns the columns of a summary sheet: item, value, unit.
@@ -459,6 +464,29 @@ func newBook(kind string, site rating.Site, key string) *workbook.Book {
 	b := workbook.NewBook()
 	b.Title, b.Footer, b.Words = BookTitle(kind, site, key), rating.Caution, true
 	return b
+}
+
+// finishBook ends a results workbook: it adds the plots sheet with the
+// report's figures when there are any (none: no plots sheet) and writes
+// the book to w.
+func finishBook(w io.Writer, b *workbook.Book, figs []rating.Figure) error {
+	if len(figs) > 0 {
+		if err := b.Pictures(SheetPlots, pictures(figs)); err != nil {
+			return err
+		}
+	}
+	return b.Write(w)
+}
+
+// writeSheets writes sheets of a results workbook in order, each by its
+// function of the report, and stops at the first that fails.
+func writeSheets[R any](b *workbook.Book, rep R, sheets ...func(*workbook.Book, R) error) error {
+	for _, write := range sheets {
+		if err := write(b, rep); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // BookTitle is the title printed at the head of every page of a results

@@ -453,13 +453,8 @@ func WriteRecordText(w io.Writer, res *record.Result, tables RecordTables) error
 			return err
 		}
 	}
-	if len(res.Warnings) > 0 {
-		bw.WriteString("\n")
-		for _, s := range res.Warnings {
-			fmt.Fprintf(bw, "warning: %s\n", s)
-		}
-	}
-	fmt.Fprintf(bw, "\ncaution: %s\nprovisional: %s\n", rating.Caution, record.ProvisionalNote)
+	writeTextEnd(bw, res.Warnings)
+	fmt.Fprintf(bw, "provisional: %s\n", record.ProvisionalNote)
 	return bw.Flush()
 }
 

@@ -105,17 +105,10 @@ func WriteRecordWorkbook(w io.Writer, res *record.Result, tables RecordTables) e
 			return writeShiftGaugingsSheet(b, res.Gaugings, res.Zone, res.GaugeStages)
 		})
 	}
-	for _, step := range steps {
-		if err := step(b, res); err != nil {
-			return err
-		}
+	if err := writeSheets(b, res, steps...); err != nil {
+		return err
 	}
-	if len(res.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(res.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, res.Figures)
 }
 
 // historyItems are the summary items stating rating periods and diagrams.

@@ -269,13 +269,8 @@ func WriteShiftsText(w io.Writer, c *gauged.ShiftCheck) error {
 		}
 		fmt.Fprintln(bw, shiftWords(v.Proposal, u))
 	}
-	if len(c.Warnings) > 0 {
-		bw.WriteString("\n")
-		for _, s := range c.Warnings {
-			fmt.Fprintf(bw, "warning: %s\n", s)
-		}
-	}
-	fmt.Fprintf(bw, "\ncaution: %s\nprovisional: %s\n", rating.Caution, record.ProvisionalNote)
+	writeTextEnd(bw, c.Warnings)
+	fmt.Fprintf(bw, "provisional: %s\n", record.ProvisionalNote)
 	return bw.Flush()
 }
 
@@ -320,12 +315,7 @@ func WriteShiftsWorkbook(w io.Writer, c *gauged.ShiftCheck) error {
 			return err
 		}
 	}
-	if len(c.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(c.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, c.Figures)
 }
 
 // writeShiftsSummary writes the summary sheet of a shifts workbook.

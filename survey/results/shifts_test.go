@@ -117,14 +117,7 @@ func TestShiftsFlags(t *testing.T) {
 		t.Errorf("the text does not list the excluded gauging with its reason:\n%s", text)
 	}
 
-	path := t.TempDir() + "/shifts.xlsx"
-	if err := writeFile(path, func(w io.Writer) error { return results.WriteShiftsWorkbook(w, &c) }); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := openBook(t, path).GetRows(results.SheetGaugings)
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := shiftsSheetRows(t, &c, results.SheetGaugings)
 	fx := slices.Index(rows[0], "flags")
 	if fx < 0 || len(rows) != 1+len(gs) {
 		t.Fatalf("sheet rows %q", rows)
@@ -138,6 +131,21 @@ func TestShiftsFlags(t *testing.T) {
 			t.Errorf("sheet row %d: flags %q, want %q", i+1, got, w.flags)
 		}
 	}
+}
+
+// shiftsSheetRows writes the shifts workbook of c and returns the rows
+// of one of its sheets.
+func shiftsSheetRows(t *testing.T, c *gauged.ShiftCheck, sheet string) [][]string {
+	t.Helper()
+	path := t.TempDir() + "/shifts.xlsx"
+	if err := writeFile(path, func(w io.Writer) error { return results.WriteShiftsWorkbook(w, c) }); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := openBook(t, path).GetRows(sheet)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rows
 }
 
 // The proposed diagrams of a shifts workbook name the rating period in
@@ -170,14 +178,7 @@ func TestShiftsWorkbookProposalPeriods(t *testing.T) {
 		t.Fatal(err)
 	}
 	col := slices.Index(recs[0], "rating_period")
-	path := t.TempDir() + "/shifts.xlsx"
-	if err := writeFile(path, func(w io.Writer) error { return results.WriteShiftsWorkbook(w, &c) }); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := openBook(t, path).GetRows(results.SheetProposals)
-	if err != nil {
-		t.Fatal(err)
-	}
+	rows := shiftsSheetRows(t, &c, results.SheetProposals)
 	at2 := slices.Index(rows[0], "rating period")
 	if col < 0 || at2 < 0 || len(rows) != 1+len(gs) {
 		t.Fatalf("CSV columns %q, sheet rows %q", recs[0], rows)

@@ -43,19 +43,12 @@ const (
 func WriteSlopeAreaWorkbook(w io.Writer, rep reach.Report) error {
 	b := newBook("slope-area", rep.Provenance.Site, saReachName(rep))
 	defer b.Close()
-	for _, write := range []func(*workbook.Book, reach.Report) error{
+	if err := writeSheets(b, rep,
 		writeSASummary, writeSAInputs, writeSASections, writeSASubsections, writeSASubreaches, writeSAChecks, writeSAUncertainty,
-	} {
-		if err := write(b, rep); err != nil {
-			return err
-		}
+	); err != nil {
+		return err
 	}
-	if len(rep.Figures) > 0 {
-		if err := b.Pictures(SheetPlots, pictures(rep.Figures)); err != nil {
-			return err
-		}
-	}
-	return b.Write(w)
+	return finishBook(w, b, rep.Figures)
 }
 
 // saSubreachesSolved words how the subreaches of a slope-area estimate
@@ -200,11 +193,8 @@ func writeSASubsections(b *workbook.Book, rep reach.Report) error {
 		return err
 	}
 	for _, sec := range rep.Result.Sections {
-		for i, sr := range sec.Subs {
-			if err := s.Row(sec.ID, i+1, sr.Region.String(), sr.From, sr.To, sr.N,
-				sr.Area, sr.WettedPerimeter, sr.TopWidth, sr.Conveyance, sr.Discharge, sr.Velocity); err != nil {
-				return err
-			}
+		if err := writeSubsectionRows(s, sec.ID, sec.Subs); err != nil {
+			return err
 		}
 	}
 	return s.Flush()
@@ -258,10 +248,8 @@ func writeSAChecks(b *workbook.Book, rep reach.Report) error {
 	for _, c := range rep.Result.Checks {
 		vals := []any{c.Name, c.Value, c.Relation, c.Limit, c.Status(), workbook.Styled{Style: ws, Value: c.Source}}
 		if !c.Pass {
-			for i := range 5 { // the source keeps its wrapping
-				if vals[i], err = b.Marked(cols[i].Format, vals[i]); err != nil {
-					return err
-				}
+			if err := markCells(b, cols, vals[:5]); err != nil { // the source keeps its wrapping
+				return err
 			}
 		}
 		if err := s.Row(vals...); err != nil {

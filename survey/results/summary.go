@@ -48,7 +48,8 @@ func WriteCaution(w io.Writer) error {
 	return err
 }
 
-// endSummary writes the warnings and the caution after a summary.
+// endSummary writes the warnings and the caution, a line each, after a
+// summary or the rating text report (WriteRatingText), and flushes w.
 func endSummary(w *bufio.Writer, warnings []string) error {
 	for _, s := range warnings {
 		fmt.Fprintln(w, "warning: "+s)
