@@ -314,10 +314,19 @@ func (t *ControlTable) bandNote() string {
 		return "parametric: 2.5 and 97.5 % quantiles of the rating over the posterior draws; total: the same with the remnant error added (the uncertainty of the rated discharge, not of a gauging)"
 	}
 	note := "parametric: 95 % band of the mean relation (delta method); total: 95 % prediction band of a single discharge (adds the standard error of estimate)"
-	if e := t.Extension; e != nil && e.Level {
-		note += "; above the highest gauging, the fitted rating's bands at the join, kept at their width in ln Q along the conveyance-slope extension (S level: no allowance for S changing above the gaugings)"
-	} else if e != nil {
-		note += "; above the highest gauging, the fitted rating's bands at the join, widening along the conveyance-slope extension by the standard error of the trend of ln S"
+	if e := t.Extension; e != nil {
+		slope := "the standard error of the trend of ln S"
+		if e.Level {
+			slope = "the standard error of the trend of ln S that the gaugings leave open (S taken as level, p = " + sayf("%.2g", e.TrendP) + ")"
+			if math.IsNaN(e.TrendP) {
+				slope = "the standard error of the trend of ln S that the gaugings leave open (S constant over them)"
+			}
+		}
+		n := sayf("and z·|Δφ|·%.3g for Manning's n of the overbanks relative to the channel's (log-normal, cv %g; φ the overbanks' share of the conveyance, Δφ its change from the join)", e.NLogSD, DefaultNCV)
+		if t.hyd.tab != nil {
+			n = "(no allowance for n off the channel: a table reference has no subsections)"
+		}
+		note += "; above the highest gauging, the fitted rating's bands at the join, widened along the conveyance-slope extension in quadrature by t·½·(h − h_j) times " + slope + " " + n
 	}
 	return note
 }
