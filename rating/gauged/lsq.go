@@ -999,6 +999,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 		}
 	}
 	f.Warnings = append(f.Warnings, zeroFlowConflicts(fitted, f.Rating.Controls[0].B, f.OffsetSource, f.Units, sel.UTCOffset)...)
+	f.Warnings = append(f.Warnings, f.farGaugings(gs, sel.UTCOffset)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -1008,6 +1009,44 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 	f.Warnings = append(f.Warnings, f.stepWarnings()...)
+}
+
+// FarDepartureSigmas is the departure from the fitted rating, in the
+// gauging's standard uncertainties in ln Q, beyond which a fitted gauging
+// is warned of (common practice: three standard deviations).
+const FarDepartureSigmas = 3.0
+
+// farGaugings returns a warning for each fitted gauging of gs whose
+// departure from the fitted rating in ln Q, ln Q − ln Q̂, exceeds
+// FarDepartureSigmas times its standard uncertainty σ (LogSigma: U/1.96,
+// a poor gauging's U read as rating.PoorWeightPercent), naming it, its
+// stage, the departure and how many σ; the highest gauging is said to be
+// so, since the top of the fit, and any extension above it, rests on it.
+// offset writes the times.
+func (f *ControlFit) farGaugings(gs []Gauging, offset time.Duration) []string {
+	d := f.d
+	L := f.Units.Length()
+	var out []string
+	for i, idx := range d.index {
+		g := gs[idx]
+		r := d.y[i] - logQ(f.Rating, d.h[i])
+		if !finite(r) || !(math.Abs(r) > FarDepartureSigmas*d.sigma[i]) {
+			continue
+		}
+		name := g.label()
+		if !g.Time.IsZero() {
+			name += " (" + TimeText(g.Time, offset) + ")"
+		}
+		w := sayf("%s at gauge height %s %s departs %+.1f %% from the fitted rating (%+.3f in ln Q), %.1f times its standard uncertainty (σ = U/1.96 = %.3f in ln Q, U = %.3g %%)",
+			name, gh(g.Stage), L, 100*math.Expm1(r), r, math.Abs(r)/d.sigma[i], d.sigma[i], 100*CoverageFactor95*d.sigma[i])
+		if i == d.n()-1 {
+			w += ": it is the highest gauging, and the top of the fit (and any extension above it) rests on it; check the gauging before relying on the rating there"
+		} else {
+			w += ": check the gauging"
+		}
+		out = append(out, w)
+	}
+	return out
 }
 
 // zeroFlowConflicts returns a warning for each gauging of gs (those of the
