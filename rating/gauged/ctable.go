@@ -160,8 +160,9 @@ func (l heldLower) at(h, p, t float64) (float64, float64) {
 // without a section carries the rating on (the Bayesian band then widens
 // as the prior allows). Rows above
 // the gaugings give their discharge as a multiple of the largest gauged
-// one, with a warning past ExtrapolationWarnMultiple. A To above the
-// section's lower end is ErrBeyondSection.
+// one, with a warning past ExtrapolationWarnMultiple. A To more than
+// TableEdge above the section's lower end is ErrBeyondSection (within it,
+// the table stops at the end).
 //
 // References:
 //
@@ -185,13 +186,20 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		}
 	}
 	if opt.To != 0 {
-		if c.ok() && opt.To > math.Max(c.top(), f.HighStage) {
+		// A To at the section's end, as a gauge height the datum was
+		// subtracted from (104.60 − 101), may lie above it by round-off:
+		// within TableEdge it is the end.
+		limit := math.Inf(1)
+		if c.ok() {
+			limit = math.Max(c.top(), f.HighStage)
+		}
+		if opt.To > limit+TableEdge {
 			return t, errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
 		}
 		if !(opt.To > lo) {
 			return t, errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
 		}
-		top = opt.To
+		top = math.Min(opt.To, limit)
 	}
 	if f.Method == LeastSquares && c.ok() && top > f.HighStage {
 		h, q, w := upperGaugings(f.d, f.Rating, opt.ExtensionGaugings)
