@@ -221,6 +221,11 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if errors.Is(err, rating.ErrStepTooFine) {
 		return nil, tooFineStep("fit", f.step, d.Units, err)
 	}
+	if ref := f.section + f.hydraulicTable; errors.Is(err, gauged.ErrBeyondSection) && f.to != 0 && ref != "" {
+		// The table's top is the section's (or the hydraulic rating
+		// table's): name that file, not the gaugings'.
+		return nil, fmt.Errorf("fit: --to %g: %s: %w", f.to, ref, err)
+	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}

@@ -357,8 +357,14 @@ func TestFitUsageErrors(t *testing.T) {
 func TestFitRefusesPastSection(t *testing.T) {
 	t.Parallel()
 	_, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "5")
-	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") {
-		t.Errorf("past the section: err = %v", err)
+	if err == nil || !strings.Contains(err.Error(), "refusing to extrapolate") || !strings.Contains(err.Error(), filepath.Base(fitDemoSurvey)) {
+		t.Errorf("past the section: err = %v, want it to name the section file", err)
+	}
+	// The section's own end, 104.8 − 100 as the gauge height (4.799…97
+	// in floating point), is within the table.
+	out, _, err := fitRun(t, "fit", fitDemoGaugings, "--section", fitDemoSurvey, "--slope", "0.0012", "--datum", "100", "--to", "4.8", "--method", "lsq")
+	if err != nil || !strings.Contains(out, "      4.800 ") {
+		t.Errorf("--to at the section's end: err = %v, output %.300q", err, out)
 	}
 	for _, method := range []string{"bayes", "lsq"} {
 		out, _, err := fitRun(t, "fit", fitDemoGaugings, "--to", "3.5", "--method", method, "--format", "json")

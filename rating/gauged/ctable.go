@@ -160,8 +160,9 @@ func (l heldLower) at(h, p, t float64) (float64, float64) {
 // without a section carries the rating on (the Bayesian band then widens
 // as the prior allows). Rows above
 // the gaugings give their discharge as a multiple of the largest gauged
-// one, with a warning past ExtrapolationWarnMultiple. A To above the
-// section's lower end is ErrBeyondSection.
+// one, with a warning past ExtrapolationWarnMultiple. A To more than
+// TableEdge above the section's lower end is ErrBeyondSection (within it,
+// the table stops at the end).
 //
 // References:
 //
@@ -185,13 +186,20 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		}
 	}
 	if opt.To != 0 {
-		if c.ok() && opt.To > math.Max(c.top(), f.HighStage) {
+		// A To at the section's end, as a gauge height the datum was
+		// subtracted from (104.60 − 101), may lie above it by round-off:
+		// within TableEdge it is the end.
+		limit := math.Inf(1)
+		if c.ok() {
+			limit = math.Max(c.top(), f.HighStage)
+		}
+		if opt.To > limit+TableEdge {
 			return t, errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
 		}
 		if !(opt.To > lo) {
 			return t, errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
 		}
-		top = opt.To
+		top = math.Min(opt.To, limit)
 	}
 	if f.Method == LeastSquares && c.ok() && top > f.HighStage {
 		h, q, w := upperGaugings(f.d, f.Rating, opt.ExtensionGaugings)
@@ -314,10 +322,19 @@ func (t *ControlTable) bandNote() string {
 		return "parametric: 2.5 and 97.5 % quantiles of the rating over the posterior draws; total: the same with the remnant error added (the uncertainty of the rated discharge, not of a gauging)"
 	}
 	note := "parametric: 95 % band of the mean relation (delta method); total: 95 % prediction band of a single discharge (adds the standard error of estimate)"
-	if e := t.Extension; e != nil && e.Level {
-		note += "; above the highest gauging, the fitted rating's bands at the join, kept at their width in ln Q along the conveyance-slope extension (S level: no allowance for S changing above the gaugings)"
-	} else if e != nil {
-		note += "; above the highest gauging, the fitted rating's bands at the join, widening along the conveyance-slope extension by the standard error of the trend of ln S"
+	if e := t.Extension; e != nil {
+		slope := "the standard error of the trend of ln S"
+		if e.Level {
+			slope = "the standard error of the trend of ln S that the gaugings leave open (S taken as level, p = " + sayf("%.2g", e.TrendP) + ")"
+			if math.IsNaN(e.TrendP) {
+				slope = "the standard error of the trend of ln S that the gaugings leave open (S constant over them)"
+			}
+		}
+		n := sayf("and z·|Δφ|·%.3g for Manning's n of the overbanks relative to the channel's (log-normal, cv %g; φ the overbanks' share of the conveyance, Δφ its change from the join)", e.NLogSD, DefaultNCV)
+		if t.hyd.tab != nil {
+			n = "(no allowance for n off the channel: a table reference has no subsections)"
+		}
+		note += "; above the highest gauging, the fitted rating's bands at the join, widened along the conveyance-slope extension in quadrature by t·½·(h − h_j) times " + slope + " " + n
 	}
 	return note
 }

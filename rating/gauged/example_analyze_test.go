@@ -46,6 +46,6 @@ func ExampleAnalyze() {
 	// lsq fit: A = 9.28, B = -0.020 m, C = 1.772, standard error 3.0 %
 	// 1.00 m:  9.6 m3/s (truth  9.6), total band  8.9 to 10.4 (fit)
 	// 1.47 m: 18.8 m3/s (truth 18.8), total band 17.3 to 20.5 (fit)
-	// 2.00 m: 32.8 m3/s (truth 32.8), total band 30.2 to 35.6 (conveyance-slope), 1.74 × the largest gauging
-	// 3.00 m: 69.9 m3/s (truth 70.0), total band 64.3 to 76.0 (conveyance-slope), 3.71 × the largest gauging
+	// 2.00 m: 32.8 m3/s (truth 32.8), total band 28.6 to 37.6 (conveyance-slope), 1.74 × the largest gauging
+	// 3.00 m: 69.9 m3/s (truth 70.0), total band 50.7 to 96.4 (conveyance-slope), 3.71 × the largest gauging
 }

@@ -67,6 +67,16 @@ type ConveyanceSlope struct {
 	// NaN when S is level).
 	LogSlope, Trend, Centre float64
 	LogSlopeSE, TrendSE     float64
+	// LineTrendSE is the standard error of the trend of the straight line
+	// of ln S fitted before the test, level or not (NaN with fewer than
+	// two distinct stages): how far the gaugings bound a trend even when
+	// S is taken as level. The joined bands widen by it (see At).
+	LineTrendSE float64
+	// NLogSD is σ_lnf = √(ln(1 + cv²)) of a factor on the overbanks' n
+	// relative to the channel's, cv DefaultNCV: the joined bands widen
+	// by the change of the overbanks' share of conveyance it moves (see
+	// At). It is 0 for a table reference, which has no subsections.
+	NLogSD float64
 	// TrendP is the two-sided p-value of the t test of the trend (NaN
 	// when ln S changes by less than slopeFlat over the points: S is then
 	// taken as constant).
@@ -77,7 +87,9 @@ type ConveyanceSlope struct {
 	// joined, the gaugings' own S line is carried up).
 	Join *ConveyanceJoin
 
-	tq float64 // Student quantile of the bands
+	tq    float64   // Student quantile of the bands
+	tLine float64   // Student quantile of LineTrendSE (n − 2 degrees of freedom)
+	ref   reference // the conveyance the extension rests on
 }
 
 // ConveyanceJoin is where a conveyance-slope extension meets the fitted
@@ -96,6 +108,9 @@ type ConveyanceJoin struct {
 	// GaugedLogSlope is ln S of the gaugings' own line at the join, for
 	// comparison with LogSlope.
 	GaugedLogSlope float64
+	// OverbankShare is φ_ob(h_j), the overbank subsections' share of the
+	// section's conveyance at the join (0 for a table reference).
+	OverbankShare float64
 }
 
 // Joined returns the extension joined to a fitted rating at gauge height
@@ -110,7 +125,8 @@ type ConveyanceJoin struct {
 //	gaugings' S and carried up, Q = K·√S; cited from memory).
 func (s ConveyanceSlope) Joined(h, q, k, pHalf, tHalf float64) ConveyanceSlope {
 	s.Join = &ConveyanceJoin{Stage: h, Discharge: q, Conveyance: k, LogSlope: 2 * math.Log(q/k),
-		ParametricHalf: pHalf, TotalHalf: tHalf, GaugedLogSlope: s.gaugedLogSlopeAt(h)}
+		ParametricHalf: pHalf, TotalHalf: tHalf, GaugedLogSlope: s.gaugedLogSlopeAt(h),
+		OverbankShare: s.ref.overbankShare(h)}
 	return s
 }
 
@@ -153,7 +169,10 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	if len(discharges) != n || len(weights) != n {
 		panic("gauged: FitConveyanceSlope: slices of different lengths")
 	}
-	s := ConveyanceSlope{TrendP: math.NaN()}
+	s := ConveyanceSlope{TrendP: math.NaN(), LineTrendSE: math.NaN(), ref: c}
+	if c.sec != nil {
+		s.NLogSD = logSD(DefaultNCV)
+	}
 	if n < ConveyanceSlopeMin {
 		return s, errorf("%w: %s in the upper range, at least %d needed", ErrExtension, rating.Counted(n, "gauging", "gaugings"), ConveyanceSlopeMin)
 	}
@@ -175,6 +194,10 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	ym, trend, ss, sxx, sw := l.mean, l.trend, l.ss, l.sxx, float64(n)
 	s2 := ss / float64(n-2)
 	span := x[n-1] - x[0]
+	if sxx > 0 {
+		s.LineTrendSE = math.Sqrt(s2 / sxx)
+	}
+	s.tLine = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(0.5 + FitBandLevel/2)
 	switch {
 	case math.Abs(trend)*span <= slopeFlat:
 		// No change of ln S over the points worth the name: constant.
@@ -272,16 +295,35 @@ func (s ConveyanceSlope) gaugedLogSlopeAt(h float64) float64 {
 // standard errors, the prediction band adding the scatter of ln S),
 // half-width t·½·√(SE²(h) [+ s²]). Joined (see Joined), they start from
 // the fitted rating's bands at the join, so the table is continuous
-// there. With S level the extension's one estimate is the fitted
-// discharge at the join, so the bands keep their width in ln Q from
-// there (they hold no allowance for S changing above the gaugings); with
-// a trend they widen with the distance above the join by the standard
-// error of the trend:
+// there, and widen above it by two allowances added in quadrature to
+// w_j, the fitted rating's parametric or total half-width at the join:
 //
-//	half-width √(w_j² + (t·½·(h − h_j)·SE(trend))²),
+//	half-width √(w_j² + a_S² + a_n²),
+//	a_S = t·½·(h − h_j)·SE(trend),
+//	a_n = z·|φ_ob(h) − φ_ob(h_j)|·σ_lnf.
 //
-// w_j the fitted rating's parametric or total half-width at the join.
-// A k that is not > 0 gives zero discharge and NaN bands.
+// a_S is the slope's: the gaugings bound the trend of ln S only to the
+// standard error of the straight line fitted to them (LineTrendSE, t
+// Student's quantile with n − 2 degrees of freedom), whether or not S is
+// then taken as level. a_n is that of Manning's n off the channel: the
+// extension scales the discharge at the join by K(h)/K(h_j), and a factor
+// f on the overbanks' n relative to the channel's divides their
+// conveyance by f, so ∂ln(K(h)/K(h_j))/∂ln f = −(φ_ob(h) − φ_ob(h_j)),
+// φ_ob the overbank subsections' share of the section's conveyance; f is
+// taken as log-normal with coefficient of variation DefaultNCV (as the
+// priors are, after Le Coz et al., 2014), σ_lnf = √(ln(1 + cv²)) (NLogSD)
+// and z the normal quantile of FitBandLevel. A table reference has no
+// subsections and no a_n. A k that is not > 0 gives zero discharge and
+// NaN bands.
+//
+// References:
+//
+//	Le Coz, J., Renard, B., Bonnifait, L., Branger, F., Le Boursicaud, R.
+//	(2014). Combining hydraulic knowledge and uncertain gaugings in the
+//	estimation of hydrometric rating curves: a Bayesian approach.
+//	Journal of Hydrology 509, 573–587 (n log-normal about the survey's).
+//	Chow, V. T. (1959). Open-Channel Hydraulics. McGraw-Hill, eq. 6-9
+//	(conveyance proportional to 1/n).
 func (s ConveyanceSlope) At(h, k float64) (q, pLo, pHi, tLo, tHi float64) {
 	if !(k > 0) {
 		return 0, math.NaN(), math.NaN(), math.NaN(), math.NaN()
@@ -289,11 +331,9 @@ func (s ConveyanceSlope) At(h, k float64) (q, pLo, pHi, tLo, tHi float64) {
 	lq := math.Log(k) + 0.5*s.LogSlopeAt(h)
 	var hp, ht float64
 	if j := s.Join; j != nil {
-		grow := 0.0
-		if se := s.TrendSE; !s.Level && se > 0 && h > j.Stage {
-			grow = s.tq * 0.5 * (h - j.Stage) * se
-		}
-		hp, ht = math.Hypot(j.ParametricHalf, grow), math.Hypot(j.TotalHalf, grow)
+		aS, aN := s.allowances(h)
+		hp = math.Sqrt(j.ParametricHalf*j.ParametricHalf + aS*aS + aN*aN)
+		ht = math.Sqrt(j.TotalHalf*j.TotalHalf + aS*aS + aN*aN)
 	} else {
 		v := s.LogSlopeSE * s.LogSlopeSE
 		if !s.Level {
@@ -304,6 +344,27 @@ func (s ConveyanceSlope) At(h, k float64) (q, pLo, pHi, tLo, tHi float64) {
 	}
 	return math.Exp(lq), math.Exp(lq - hp), math.Exp(lq + hp), math.Exp(lq - ht), math.Exp(lq + ht)
 }
+
+// allowances returns the half-widths in ln Q that a joined extension's
+// bands add at gauge height h above the join for the slope (aS) and for
+// Manning's n off the channel (aN); see At. Both are 0 at or below the
+// join.
+func (s ConveyanceSlope) allowances(h float64) (aS, aN float64) {
+	j := s.Join
+	if j == nil || !(h > j.Stage) {
+		return 0, 0
+	}
+	if se := s.LineTrendSE; se > 0 {
+		aS = s.tLine * 0.5 * (h - j.Stage) * se
+	}
+	if s.NLogSD > 0 {
+		aN = bandZ * math.Abs(s.ref.overbankShare(h)-j.OverbankShare) * s.NLogSD
+	}
+	return aS, aN
+}
+
+// bandZ is the standard normal quantile of the FitBandLevel bands.
+var bandZ = distuv.UnitNormal.Quantile(0.5 + FitBandLevel/2)
 
 // upperGaugings returns the stages, discharges and weights of the gaugings
 // the extension is fitted to: the top n of them when n > 0, else those on

@@ -258,7 +258,9 @@ func (t *FitTable) rule(f *Fit, c *rating.HydraulicCurve, h float64) (FitRow, er
 }
 
 // TableEdge is how far, in length units, At accepts a stage beyond the
-// table's first or last row (round-off of a stage written in hundredths).
+// table's first or last row, and ControlFit.Table a To above the
+// section's lower end (round-off of a stage written in hundredths, or of
+// a datum subtracted).
 const TableEdge = 1e-9
 
 // At evaluates the table's rule at any gauge height h between its first

@@ -999,6 +999,7 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 		}
 	}
 	f.Warnings = append(f.Warnings, zeroFlowConflicts(fitted, f.Rating.Controls[0].B, f.OffsetSource, f.Units, sel.UTCOffset)...)
+	f.Warnings = append(f.Warnings, f.farGaugings(gs, sel.UTCOffset)...)
 	if ranges == nil {
 		for _, c := range f.Rating.Controls {
 			lo, hi := ExponentRange(c.Kind)
@@ -1008,6 +1009,74 @@ func (f *ControlFit) finishCommon(gs []Gauging, sel Selection, reasons []string,
 	f.Exponents = ranges
 	f.Warnings = append(f.Warnings, f.Rating.exponentWarnings(ranges)...)
 	f.Warnings = append(f.Warnings, f.stepWarnings()...)
+}
+
+// FarDepartureSigmas is the departure from the fitted rating, in the
+// gauging's standard uncertainties in ln Q, beyond which a fitted gauging
+// that no band marks is warned of (common practice: three standard
+// deviations).
+const FarDepartureSigmas = 3.0
+
+// farListed is how many far poor gaugings below the highest are named
+// one by one; more are summed up in one line naming the farthest
+// farListed.
+const farListed = 3
+
+// farGaugings warns of the fitted gaugings of gs whose departure from the
+// fitted rating in ln Q, r = ln Q − ln Q̂, exceeds FarDepartureSigmas·σ,
+// σ the gauging's standard uncertainty (LogSigma: U/1.96, a poor
+// gauging's U read as rating.PoorWeightPercent), where no band says so:
+// the highest gauging, on its own, since the top of the fit and any
+// extension above it rest on it; and gaugings whose band is open (poor,
+// with no uncertainty of their own: Gauging.Outside never marks them),
+// up to farListed by name and more summed up naming the farthest. Other
+// gaugings are marked outside their band in the report's table. offset
+// writes the times.
+func (f *ControlFit) farGaugings(gs []Gauging, offset time.Duration) []string {
+	d := f.d
+	L := f.Units.Length()
+	type far struct {
+		i    int
+		r, z float64
+	}
+	describe := func(x far) string {
+		g := gs[d.index[x.i]]
+		name := g.label()
+		if !g.Time.IsZero() {
+			name += " (" + TimeText(g.Time, offset) + ")"
+		}
+		return sayf("%s at gauge height %s %s departs %+.1f %% from the fitted rating (%+.3f in ln Q), %.1f times its standard uncertainty (σ = U/1.96 = %.3f in ln Q, U = %.3g %%)",
+			name, gh(g.Stage), L, 100*math.Expm1(x.r), x.r, x.z, d.sigma[x.i], 100*CoverageFactor95*d.sigma[x.i])
+	}
+	var out []string
+	var open []far
+	for i, idx := range d.index {
+		r := d.y[i] - logQ(f.Rating, d.h[i])
+		if !finite(r) || !(d.sigma[i] > 0) || !(math.Abs(r) > FarDepartureSigmas*d.sigma[i]) {
+			continue
+		}
+		x := far{i: i, r: r, z: math.Abs(r) / d.sigma[i]}
+		g := gs[idx]
+		switch {
+		case i == d.n()-1:
+			out = append(out, describe(x)+": it is the highest gauging, and the top of the fit (and any extension above it) rests on it; check the gauging before relying on the rating there")
+		case g.Uncertainty <= 0 && g.Quality == rating.Poor:
+			open = append(open, x)
+		}
+	}
+	if len(open) <= farListed {
+		for _, x := range open {
+			out = append(out, describe(x)+": a poor gauging's band is open, so the table does not mark it; check the gauging")
+		}
+		return out
+	}
+	sort.SliceStable(open, func(a, b int) bool { return open[a].z > open[b].z })
+	var names []string
+	for _, x := range open[:farListed] {
+		names = append(names, describe(x))
+	}
+	return append(out, sayf("%d poor gaugings (their band is open, so the table does not mark them) depart from the fitted rating by more than %g times their standard uncertainty; the farthest: %s; and %d more: check them",
+		len(open), FarDepartureSigmas, strings.Join(names, "; "), len(open)-farListed))
 }
 
 // zeroFlowConflicts returns a warning for each gauging of gs (those of the

@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"wetline/rating"
+	"wetline/subdivide"
 )
 
 // reference is the hydraulic rating a fit is compared with, extended on
@@ -39,6 +40,27 @@ func (r reference) at(h float64) (q, k float64, err error) {
 	}
 	q, err = tableDischarge(r.tab, h)
 	return q, q, err
+}
+
+// overbankShare returns φ_ob, the share of the section's conveyance at
+// gauge height h carried by its overbank subsections (every region but
+// subdivide.Channel, as HydraulicPrior splits them): 0 for a table, which
+// has no subsections, and where the section gives no conveyance.
+func (r reference) overbankShare(h float64) float64 {
+	if r.sec == nil {
+		return 0
+	}
+	row, err := r.sec.Row(h)
+	if err != nil || !(row.Conveyance > 0) {
+		return 0
+	}
+	var ob float64
+	for _, sub := range row.Subs {
+		if sub.Region != subdivide.Channel {
+			ob += sub.Conveyance
+		}
+	}
+	return ob / row.Conveyance
 }
 
 // discharge returns the reference's discharge at gauge height h.

@@ -111,8 +111,15 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 	}
 	if t := r.Table; t != nil && len(t.Rows) > 0 {
 		top := t.Rows[len(t.Rows)-1]
-		fmt.Fprintf(bw, "  table to %.3f %s: %s %s, total 95 %% band %s to %s",
-			top.Stage, r.Units.Length(), sig(top.Discharge, 4), r.Units.Discharge(), sig(top.TotalLower, 4), sig(top.TotalUpper, 4))
+		band := fmt.Sprintf("total 95 %% band %s to %s", sig(top.TotalLower, 4), sig(top.TotalUpper, 4))
+		switch {
+		case t.BandsWithheld:
+			band = "bands withheld (the chains disagree)"
+		case math.IsNaN(top.TotalLower) || math.IsNaN(top.TotalUpper):
+			band = "no total band there"
+		}
+		fmt.Fprintf(bw, "  table to %.3f %s: %s %s, %s",
+			top.Stage, r.Units.Length(), sig(top.Discharge, 4), r.Units.Discharge(), band)
 		if !math.IsNaN(top.Multiple) {
 			fmt.Fprintf(bw, " (%.1f times the largest gauged discharge)", top.Multiple)
 		}
