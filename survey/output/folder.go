@@ -203,22 +203,28 @@ func (d *Folder) Write(name string, write func(io.Writer) error) error {
 	if name == "" || name != filepath.Base(name) || name == "." || name == ".." {
 		return fmt.Errorf("%q: %w", name, ErrFolderName)
 	}
-	d.files.mu.Lock()
-	closed := d.files.closed
-	d.files.mu.Unlock()
-	if closed {
-		return ErrClosed
-	}
-	key := strings.ToLower(name)
-	if d.names[key] {
-		return fmt.Errorf("%s: %w", d.Path(name), ErrTwice)
-	}
-	d.names[key] = true
-	out, err := os.OpenFile(filepath.Join(d.tmp, name), os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
+	out, err := d.create(name)
 	if err != nil {
 		return err
 	}
 	return finish(out, write)
+}
+
+// create makes one file of the folder under the set's lock, so that a
+// Discard (an interrupt) either comes first, and the file is refused with
+// ErrClosed, or finds the file and removes it with the folder.
+func (d *Folder) create(name string) (*os.File, error) {
+	d.files.mu.Lock()
+	defer d.files.mu.Unlock()
+	if d.files.closed {
+		return nil, ErrClosed
+	}
+	key := strings.ToLower(name)
+	if d.names[key] {
+		return nil, fmt.Errorf("%s: %w", d.Path(name), ErrTwice)
+	}
+	d.names[key] = true
+	return os.OpenFile(filepath.Join(d.tmp, name), os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
 }
 
 // remove deletes the staged folder and the lock.
