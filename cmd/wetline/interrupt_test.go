@@ -394,3 +394,32 @@ func TestInterruptAtEveryPoint(t *testing.T) {
 		}
 	}
 }
+
+// A batch killed midway (SIGKILL, which no handler sees) leaves its staged
+// folder and its lock beside the output; the next batch into the same
+// folder takes over the lock and removes both, leaving only the output.
+func TestKilledBatchCleanedByNextRun(t *testing.T) {
+	t.Parallel()
+	in := batchInputs(t, "a", "b", "c", "d")
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	cmd := exec.Command(os.Args[0], "at", "section 2", strconv.Itoa(int(syscall.SIGKILL)),
+		"rate", in, "--slope", "0.001", "-o", out)
+	cmd.Env = append(os.Environ(), helperEnv+"=1")
+	err := cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != -1 {
+		t.Fatalf("killed run: %v, want it killed", err)
+	}
+	pid := cmd.Process.Pid
+	want := fmt.Sprintf(".out.%d-1.tmpdir/ .out.lock", pid)
+	if got := listing(t, dir); got != want {
+		t.Fatalf("the killed run left %q, want %q", got, want)
+	}
+	if _, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", out); code != 0 {
+		t.Fatalf("next run: exit %d: %s", code, errs)
+	}
+	if got := listing(t, dir); got != "out/" {
+		t.Errorf("after the next run the folder holds %q, want only out/", got)
+	}
+}
