@@ -423,3 +423,22 @@ func TestKilledBatchCleanedByNextRun(t *testing.T) {
 		t.Errorf("after the next run the folder holds %q, want only out/", got)
 	}
 }
+
+// An error caused by an interrupt, however wrapped, maps to 128 plus the
+// signal's number with the one line, not to 1 with the error's text.
+func TestExitStatusOfInterrupt(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		err  error
+		want int
+	}{
+		{interrupted{syscall.SIGINT}, 130},
+		{fmt.Errorf("rating xs-004: %w", interrupted{syscall.SIGTERM}), 143},
+		{fmt.Errorf("batch: %w", fmt.Errorf("pool: %w", interrupted{syscall.SIGHUP})), 129},
+	} {
+		var errb strings.Builder
+		if got := exitStatus(c.err, &errb); got != c.want || errb.String() != interruptNote+"\n" {
+			t.Errorf("%v: exit %d, said %q; want %d and %q", c.err, got, errb.String(), c.want, interruptNote)
+		}
+	}
+}

@@ -732,6 +732,11 @@ func orderedPool[T any](ctx context.Context, n, workers int, do func(i int) T, e
 	}
 	var err error
 	for i := 0; i < n && err == nil; i++ {
+		if ctx.Err() != nil {
+			// Ended: no more results are emitted, even those ready.
+			err = context.Cause(ctx)
+			break
+		}
 		select {
 		case r := <-slots[i]:
 			<-ahead
