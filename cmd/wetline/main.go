@@ -215,8 +215,9 @@ func (s *ending) interruptLocked() int {
 }
 
 // after ends a run whose command returned err (broken: standard output
-// was found closed), unless the signal handler is ending it: then it
-// waits for that. It returns the exit status.
+// was found closed) and returns the exit status. Once a signal has come
+// the run ends as interrupted, whatever err is: here, or in the signal
+// handler, which then holds the end and after waits for the exit.
 func (s *ending) after(err error, broken bool) int {
 	s.mu.Lock() // held until the process exits
 	if s.caught() != nil {
