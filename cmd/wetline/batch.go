@@ -123,6 +123,7 @@ func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs [
 	case !f.long:
 		sum, err = batch.Folder(ctx, e.files, f.output, format, jobs, opt)
 		if err == nil {
+			e.pass("staged")
 			err = commit()
 		}
 		return sum, fmt.Sprintf("%s (index: %s)", f.output, filepath.Join(f.output, batch.IndexFile)), err
@@ -136,6 +137,7 @@ func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs [
 		return werr
 	})
 	if err == nil {
+		e.pass("staged")
 		err = commit()
 	}
 	return sum, "one table on " + f.output, err
@@ -180,6 +182,7 @@ type progress struct {
 
 func (p *progress) update(k, total int) {
 	p.finished = k
+	p.e.pass(fmt.Sprintf("section %d", k))
 	if !p.e.stderrTTY {
 		return
 	}

@@ -43,6 +43,7 @@ func (d delivery) toStdout() bool { return d.output == "" || d.output == "-" }
 // refused, naming both flags and wrapping output.ErrTwice, before anything
 // is written.
 func (e *env) deliver(d delivery) error {
+	e.pass("deliver")
 	f := e.files
 	f.Protect(d.inputs...)
 	var figPaths []string

@@ -10,6 +10,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"sort"
+	"strconv"
 	"strings"
 	"syscall"
 	"testing"
@@ -64,6 +65,23 @@ func testCommands() map[string]command {
 		fmt.Fprintln(e.stdout, f.Name())
 		f.Close()
 		return stalled(ctx)
+	}}
+	// at POINT SIG COMMAND ARGS...: runs the command, and when it reaches
+	// POINT (see env.reached) sends the program signal SIG and waits for
+	// the signal to cancel the run, so that the command goes on from
+	// that point as an interrupted one does.
+	cmds["at"] = command{"run a command, signalling the program at a point", func(ctx context.Context, e *env, args []string) error {
+		n, err := strconv.Atoi(args[1])
+		if err != nil {
+			return err
+		}
+		e.reached = func(p string) {
+			if p == args[0] {
+				syscall.Kill(os.Getpid(), syscall.Signal(n))
+				<-ctx.Done()
+			}
+		}
+		return run(ctx, e, args[2:])
 	}}
 	return cmds
 }
@@ -309,5 +327,118 @@ func TestBrokenPipeAndStaleScratch(t *testing.T) {
 	}
 	if got := listing(t, tmp); got != "" {
 		t.Errorf("the temporary folder holds %q, want nothing (no scratch folder, the stale one removed)", got)
+	}
+}
+
+// However far a run has got when the signal comes (a batch after its
+// first section, midway, after its last, its output staged; a report
+// about to be written), it exits with 128 plus the signal's number and
+// one line saying it was interrupted, never with the error the cancelled
+// run returns on its way out, and leaves nothing beside its output. Each
+// point is tried several times, as the signal's handler and the
+// command's return race to end the run.
+func TestInterruptAtEveryPoint(t *testing.T) {
+	t.Parallel()
+	in := batchInputs(t, "a", "b", "c", "d", "e", "f")
+	rate := []string{"rate", in, "--slope", "0.001", "--step", "0.01"}
+	one := []string{"rate", demoSurveyPath, "--slope", "0.001"}
+	with := func(args []string, more ...string) []string {
+		return append(append([]string(nil), args...), more...)
+	}
+	for _, c := range []struct {
+		point string
+		sig   syscall.Signal
+		args  []string // the output, if any, is OUT or OUT.ext
+	}{
+		{"section 1", syscall.SIGINT, with(rate, "-o", "OUT")},
+		{"section 3", syscall.SIGTERM, with(rate, "-o", "OUT")},
+		{"section 6", syscall.SIGINT, with(rate, "-o", "OUT")},
+		{"staged", syscall.SIGTERM, with(rate, "-o", "OUT")},
+		{"section 2", syscall.SIGHUP, with(rate, "--long", "-o", "OUT.csv")},
+		{"staged", syscall.SIGINT, with(rate, "--long", "-o", "OUT.csv")},
+		{"section 4", syscall.SIGTERM, with(rate, "--long")},
+		{"deliver", syscall.SIGINT, with(one, "-o", "OUT.txt")},
+		{"deliver", syscall.SIGTERM, one},
+	} {
+		for rep := range 4 {
+			dir := t.TempDir()
+			args := []string{"at", c.point, strconv.Itoa(int(c.sig))}
+			for _, a := range c.args {
+				if rest, ok := strings.CutPrefix(a, "OUT"); ok {
+					a = filepath.Join(dir, "out"+rest)
+				}
+				args = append(args, a)
+			}
+			cmd := exec.Command(os.Args[0], args...)
+			cmd.Env = append(os.Environ(), helperEnv+"=1")
+			var stderr strings.Builder
+			cmd.Stderr = &stderr
+			err := cmd.Run()
+			what := fmt.Sprintf("%v at %q (%d)", c.args, c.point, rep)
+			var ee *exec.ExitError
+			if !errors.As(err, &ee) || ee.ExitCode() != 128+int(c.sig) {
+				t.Errorf("%s: %v, want exit status %d; stderr:\n%s", what, err, 128+int(c.sig), stderr.String())
+			}
+			var said []string
+			for _, line := range strings.Split(stderr.String(), "\n") {
+				if strings.HasPrefix(line, "wetline:") {
+					said = append(said, line)
+				}
+			}
+			if len(said) != 1 || said[0] != interruptNote {
+				t.Errorf("%s: said %q, want the one line %q", what, said, interruptNote)
+			}
+			if got := listing(t, dir); got != "" {
+				t.Errorf("%s: left %q in the output's folder", what, got)
+			}
+		}
+	}
+}
+
+// A batch killed midway (SIGKILL, which no handler sees) leaves its staged
+// folder and its lock beside the output; the next batch into the same
+// folder takes over the lock and removes both, leaving only the output.
+func TestKilledBatchCleanedByNextRun(t *testing.T) {
+	t.Parallel()
+	in := batchInputs(t, "a", "b", "c", "d")
+	dir := t.TempDir()
+	out := filepath.Join(dir, "out")
+	cmd := exec.Command(os.Args[0], "at", "section 2", strconv.Itoa(int(syscall.SIGKILL)),
+		"rate", in, "--slope", "0.001", "-o", out)
+	cmd.Env = append(os.Environ(), helperEnv+"=1")
+	err := cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != -1 {
+		t.Fatalf("killed run: %v, want it killed", err)
+	}
+	pid := cmd.Process.Pid
+	want := fmt.Sprintf(".out.%d-1.tmpdir/ .out.lock", pid)
+	if got := listing(t, dir); got != want {
+		t.Fatalf("the killed run left %q, want %q", got, want)
+	}
+	if _, errs, code := runCLI(t, "rate", in, "--slope", "0.001", "-o", out); code != 0 {
+		t.Fatalf("next run: exit %d: %s", code, errs)
+	}
+	if got := listing(t, dir); got != "out/" {
+		t.Errorf("after the next run the folder holds %q, want only out/", got)
+	}
+}
+
+// An error caused by an interrupt, however wrapped, maps to 128 plus the
+// signal's number with the one line, not to 1 with the error's text.
+func TestExitStatusOfInterrupt(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		err  error
+		want int
+	}{
+		{interrupted{syscall.SIGINT}, 130},
+		{fmt.Errorf("rating xs-004: %w", interrupted{syscall.SIGTERM}), 143},
+		{fmt.Errorf("batch: %w", fmt.Errorf("pool: %w", interrupted{syscall.SIGHUP})), 129},
+	} {
+		var errb strings.Builder
+		if got := exitStatus(c.err, &errb); got != c.want || errb.String() != interruptNote+"\n" {
+			t.Errorf("%v: exit %d, said %q; want %d and %q", c.err, got, errb.String(), c.want, interruptNote)
+		}
 	}
 }

@@ -9,6 +9,7 @@ import (
 	"os/signal"
 	"sort"
 	"strings"
+	"sync"
 	"syscall"
 	"time"
 
@@ -66,6 +67,11 @@ type env struct {
 	progressDelay, progressEvery time.Duration
 	// figures are the figure files the run has written.
 	figures runFigures
+	// reached, when set (by a test), is called as the run passes a
+	// point: "section K" when a batch has written its Kth section,
+	// "staged" when a batch's output waits to be committed, "deliver"
+	// before a report is written.
+	reached func(point string)
 	// stdin is what standard input reads from (nil when unknown): the
 	// file, when it is redirected from one, is protected once a command
 	// reads standard input.
@@ -113,7 +119,8 @@ func interruptStatus(sig os.Signal) int {
 
 // mainWith runs the program with a command table and returns its exit
 // status. An interrupt (SIGINT, SIGTERM or SIGHUP) discards every output
-// file being written and every temporary file, then exits.
+// file being written and every temporary file, then exits with 128 plus
+// the signal's number and one line, however far the command had got.
 //
 // A broken pipe on standard output (the reader went away, as head does)
 // ends the run as a failure: what was being written is discarded, the
@@ -133,25 +140,96 @@ func mainWith(cmds map[string]command) int {
 	// Asked for, SIGPIPE no longer kills the process: a write to a closed
 	// pipe fails with EPIPE, and the run ends through its clean-up.
 	signal.Notify(make(chan os.Signal, 1), syscall.SIGPIPE)
-	ctx, cancel := context.WithCancel(context.Background())
+	ctx, cancel := context.WithCancelCause(context.Background())
 	sigs := make(chan os.Signal, 1)
 	signal.Notify(sigs, os.Interrupt, syscall.SIGTERM, syscall.SIGHUP)
+	stop := &ending{files: e.files, scratch: scratch, stderr: os.Stderr}
 	go func() {
 		sig := <-sigs
-		cancel()
+		// Noted, and the output discarded, before the cancel: whatever
+		// error the cancel causes on its way back through the command is
+		// then known to be the interrupt's, and nothing written after it
+		// reaches its place.
+		stop.note(sig)
 		e.files.Discard()
-		os.RemoveAll(scratch)
-		fmt.Fprintln(os.Stderr, "wetline: interrupted; no partial output left")
-		os.Exit(interruptStatus(sig))
+		cancel(interrupted{sig})
+		os.Exit(stop.finish())
 	}()
 	err = run(ctx, e, os.Args[1:])
-	os.RemoveAll(scratch)
-	if stdout.broken || errors.Is(err, syscall.EPIPE) {
-		e.files.Discard()
-		fmt.Fprintln(os.Stderr, "wetline: standard output was closed before the output was written whole (broken pipe)")
+	return stop.after(err, stdout.broken)
+}
+
+// interruptNote is the one line an interrupted run ends with.
+const interruptNote = "wetline: interrupted; no partial output left"
+
+// interrupted is the cause of the context of a run ended by a signal.
+type interrupted struct{ sig os.Signal }
+
+func (i interrupted) Error() string { return "interrupted by " + i.sig.String() }
+
+// ending ends a run once: with the interrupt, whichever of the signal
+// handler and the command's return gets there first, or with the
+// command's own status. Every error a command returns after a signal
+// (the cancelled context, wrapped or not, a worker pool stopped, output
+// refused as discarded) is the interrupt's: the run exits with 128 plus
+// the signal's number and one line saying so, never with the error.
+type ending struct {
+	// mu is held by whoever ends the run, until the process exits.
+	mu      sync.Mutex
+	sigMu   sync.Mutex
+	sig     os.Signal
+	files   *output.Files
+	scratch string
+	stderr  io.Writer
+}
+
+// note records the signal that ends the run.
+func (s *ending) note(sig os.Signal) {
+	s.sigMu.Lock()
+	defer s.sigMu.Unlock()
+	if s.sig == nil {
+		s.sig = sig
+	}
+}
+
+// caught returns the signal noted, or nil.
+func (s *ending) caught() os.Signal {
+	s.sigMu.Lock()
+	defer s.sigMu.Unlock()
+	return s.sig
+}
+
+// finish ends an interrupted run: it discards the output and the scratch
+// folder, says so once and returns the exit status. The caller exits
+// with it; a second caller blocks until then.
+func (s *ending) finish() int {
+	s.mu.Lock()
+	return s.interruptLocked()
+}
+
+func (s *ending) interruptLocked() int {
+	s.files.Discard()
+	os.RemoveAll(s.scratch)
+	fmt.Fprintln(s.stderr, interruptNote)
+	return interruptStatus(s.caught())
+}
+
+// after ends a run whose command returned err (broken: standard output
+// was found closed) and returns the exit status. Once a signal has come
+// the run ends as interrupted, whatever err is: here, or in the signal
+// handler, which then holds the end and after waits for the exit.
+func (s *ending) after(err error, broken bool) int {
+	s.mu.Lock() // held until the process exits
+	if s.caught() != nil {
+		return s.interruptLocked()
+	}
+	os.RemoveAll(s.scratch)
+	if broken || errors.Is(err, syscall.EPIPE) {
+		s.files.Discard()
+		fmt.Fprintln(s.stderr, "wetline: standard output was closed before the output was written whole (broken pipe)")
 		return interruptStatus(syscall.SIGPIPE)
 	}
-	return exitStatus(err, os.Stderr)
+	return exitStatus(err, s.stderr)
 }
 
 // pipeWatch passes writes to standard output and notes a broken pipe.
@@ -183,10 +261,17 @@ func privateTemp() (string, error) {
 }
 
 // exitStatus prints err and maps it to the exit status: 0 success (and
-// help), 2 usage and environment errors, 1 everything else.
+// help), 2 usage and environment errors, 128+N an error caused by signal
+// N (the cause of a cancelled context, see interrupted), 1 everything
+// else.
 func exitStatus(err error, stderr io.Writer) int {
 	if err == nil || errors.Is(err, errHelp) {
 		return 0
+	}
+	var ie interrupted
+	if errors.As(err, &ie) {
+		fmt.Fprintln(stderr, interruptNote)
+		return interruptStatus(ie.sig)
 	}
 	var ue usageError
 	var ee envError
@@ -205,6 +290,13 @@ func exitStatus(err error, stderr io.Writer) int {
 		return 2
 	}
 	return 1
+}
+
+// pass notes that the run reached a point (see env.reached).
+func (e *env) pass(point string) {
+	if e.reached != nil {
+		e.reached(point)
+	}
 }
 
 // run is the whole program behind main: it parses args (without the

@@ -694,7 +694,8 @@ func Long(ctx context.Context, w io.Writer, jobs []Job, opt Options) (Summary, e
 // orderedPool runs do(i) for i in [0, n) on the given number of workers
 // and calls emit(i, result) for every i in increasing order, from the
 // calling goroutine. An error from emit, or the context ending, stops the
-// pool.
+// pool; a context ended returns its cause (context.Cause), so that the
+// caller can tell why the run was stopped.
 func orderedPool[T any](ctx context.Context, n, workers int, do func(i int) T, emit func(i int, r T) error) error {
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
@@ -731,12 +732,17 @@ func orderedPool[T any](ctx context.Context, n, workers int, do func(i int) T, e
 	}
 	var err error
 	for i := 0; i < n && err == nil; i++ {
+		if ctx.Err() != nil {
+			// Ended: no more results are emitted, even those ready.
+			err = context.Cause(ctx)
+			break
+		}
 		select {
 		case r := <-slots[i]:
 			<-ahead
 			err = emit(i, r)
 		case <-ctx.Done():
-			err = ctx.Err()
+			err = context.Cause(ctx)
 		}
 	}
 	cancel()

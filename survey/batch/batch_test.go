@@ -623,6 +623,20 @@ func TestRunOrderAndStop(t *testing.T) {
 	if !errors.Is(err, stop) || n != 3 {
 		t.Errorf("after emit failed: %v, %d emitted", err, n)
 	}
+	// A context cancelled midway stops the batch with its cause, so that
+	// the caller can tell an interrupt from a failure.
+	why := errors.New("interrupted by a signal")
+	ctx, cancel := context.WithCancelCause(context.Background())
+	n = 0
+	err = batch.Run(ctx, jobs, rateOptions(), func(i int, r batch.Result) error {
+		if n++; n == 2 {
+			cancel(why)
+		}
+		return nil
+	})
+	if !errors.Is(err, why) || n != 2 {
+		t.Errorf("after the context was cancelled: %v, %d emitted", err, n)
+	}
 }
 
 // feetBox is the QA survey of a section in feet: a rectangle 20 ft wide

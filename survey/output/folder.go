@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 	"syscall"
+	"time"
 )
 
 // Causes of a refused output folder, for errors.Is.
@@ -51,7 +52,9 @@ type Folder struct {
 // an index lists (nil: none but the marker). The folder must not hold any
 // input; its parent folder must exist (or be one the run may create, see
 // MayCreate). A path that is a symbolic link is refused, as replacing it
-// would replace the link.
+// would replace the link. Once the folder's lock is held (one left by a
+// run that has ended is taken over), the temporary entries ended runs
+// left beside the folder are removed (CleanStale).
 func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
@@ -79,6 +82,9 @@ func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	if err := takeLock(d.lock); err != nil {
 		return fail(err)
 	}
+	// The lock held, no other run writes this output: what killed runs
+	// left beside it goes now.
+	CleanStale(path, 0, time.Now())
 	f.seq++
 	d.tmp = filepath.Join(parent, fmt.Sprintf(".%s.%d-%d.tmpdir", base, os.Getpid(), f.seq))
 	if err := os.Mkdir(d.tmp, 0o755); err != nil {
@@ -203,22 +209,28 @@ func (d *Folder) Write(name string, write func(io.Writer) error) error {
 	if name == "" || name != filepath.Base(name) || name == "." || name == ".." {
 		return fmt.Errorf("%q: %w", name, ErrFolderName)
 	}
-	d.files.mu.Lock()
-	closed := d.files.closed
-	d.files.mu.Unlock()
-	if closed {
-		return ErrClosed
-	}
-	key := strings.ToLower(name)
-	if d.names[key] {
-		return fmt.Errorf("%s: %w", d.Path(name), ErrTwice)
-	}
-	d.names[key] = true
-	out, err := os.OpenFile(filepath.Join(d.tmp, name), os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
+	out, err := d.create(name)
 	if err != nil {
 		return err
 	}
 	return finish(out, write)
+}
+
+// create makes one file of the folder under the set's lock, so that a
+// Discard (an interrupt) either comes first, and the file is refused with
+// ErrClosed, or finds the file and removes it with the folder.
+func (d *Folder) create(name string) (*os.File, error) {
+	d.files.mu.Lock()
+	defer d.files.mu.Unlock()
+	if d.files.closed {
+		return nil, ErrClosed
+	}
+	key := strings.ToLower(name)
+	if d.names[key] {
+		return nil, fmt.Errorf("%s: %w", d.Path(name), ErrTwice)
+	}
+	d.names[key] = true
+	return os.OpenFile(filepath.Join(d.tmp, name), os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
 }
 
 // remove deletes the staged folder and the lock.

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"sync"
 	"syscall"
+	"time"
 )
 
 // Causes of a refused destination, for errors.Is.
@@ -329,6 +330,10 @@ func (f *Files) write(path string, fresh bool, write func(io.Writer) error) erro
 	if err := f.makeFolder(filepath.Dir(path)); err != nil {
 		return err
 	}
+	// No lock keeps other runs from a file as from a folder: only what
+	// ended runs left over a day ago is removed (a run elsewhere, on a
+	// shared disk, has a process id that does not run here).
+	CleanStale(path, ScratchAge, time.Now())
 	tmp, entry, err := f.createTemp(path)
 	if err != nil {
 		return err

@@ -1,0 +1,95 @@
+package output
+
+import (
+	"io/fs"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"time"
+)
+
+// stalePart matches what follows "." + an output's name + "." in the
+// names of the temporary entries a run makes beside that output: the
+// process id, a dash, a sequence number, and the kind (see tempName,
+// Files.Folder, Files.backup and install).
+var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.old)$`)
+
+// CleanStale removes the temporary entries that killed runs left beside
+// the output dest: only names of the forms this package makes ("." + the
+// output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir" or ".tmpdir.old"),
+// not links, owned by this user, of a process that no longer runs, and
+// unchanged for at least age before now. A folder (".tmpdir", a staged
+// output folder, or ".tmpdir.old", an earlier output moved aside while
+// one was put in place) is removed only when it holds nothing but
+// regular files, as such a folder does, and ".tmpdir.old" only when dest
+// exists, since with dest missing it may be the one copy of the earlier
+// output. It returns the paths removed; anything it cannot read is left
+// alone.
+func CleanStale(dest string, age time.Duration, now time.Time) []string {
+	parent, base := filepath.Dir(dest), filepath.Base(dest)
+	ents, err := os.ReadDir(parent)
+	if err != nil {
+		return nil
+	}
+	var removed []string
+	for _, e := range ents {
+		rest, ok := strings.CutPrefix(e.Name(), "."+base+".")
+		if !ok {
+			continue
+		}
+		m := stalePart.FindStringSubmatch(rest)
+		if m == nil {
+			continue
+		}
+		pid, err := strconv.Atoi(m[1])
+		if err != nil || pid == os.Getpid() || alive(pid) {
+			continue
+		}
+		path := filepath.Join(parent, e.Name())
+		st, err := os.Lstat(path)
+		if err != nil || now.Sub(st.ModTime()) < age || !ownedByMe(st) {
+			continue
+		}
+		switch kind := m[2]; kind {
+		case "tmp", "bak":
+			if !st.Mode().IsRegular() || os.Remove(path) != nil {
+				continue
+			}
+		default:
+			if !st.IsDir() || !onlyFiles(path) {
+				continue
+			}
+			if kind == "tmpdir.old" {
+				if _, err := os.Lstat(dest); err != nil {
+					continue
+				}
+			}
+			if err := os.RemoveAll(path); err != nil {
+				continue
+			}
+		}
+		removed = append(removed, path)
+	}
+	return removed
+}
+
+// onlyFiles reports whether folder dir holds nothing but regular files
+// owned by this user.
+func onlyFiles(dir string) bool {
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		return false
+	}
+	for _, e := range ents {
+		if !e.Type().IsRegular() {
+			return false
+		}
+		info, err := e.Info()
+		if err != nil || info.Mode()&fs.ModeType != 0 || !ownedByMe(info) {
+			return false
+		}
+	}
+	return true
+}
