@@ -161,6 +161,22 @@ func markColumn(t *Table) (int, error) {
 	return present[0], nil
 }
 
+// otherMarkColumn returns the index of the column of markTiers present in
+// t that is not the mark column cm (-1 for none): of a code and a
+// description, the one not read as the marks. Its text is the crew's
+// (thalweg, rew, rebar) and is kept as the points' note.
+func otherMarkColumn(t *Table, cm int) int {
+	if cm < 0 {
+		return -1
+	}
+	for _, tier := range markTiers() {
+		if c := t.Column(tier...); c >= 0 && c != cm {
+			return c
+		}
+	}
+	return -1
+}
+
 // isBankMark reports a mark read as a bank's (one of BankWords).
 func isBankMark(mark string) bool { _, ok := readBankMark(mark); return ok }
 
@@ -303,6 +319,9 @@ type sectionReader struct {
 	sv             Survey
 	cs, ce, cn, cm int
 	cnote          int
+	// cother is the column of a code or a description not read as the
+	// marks (see otherMarkColumn), read into the notes; -1 for none.
+	cother int
 	errs           errorList
 	ns             []float64 // n given on each row (NaN blank)
 	bankAt         []int     // indices of points marked bank
@@ -370,7 +389,8 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 		return r, err
 	}
 	r.cnote = t.Column(ColNote)
-	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
+	r.cother = otherMarkColumn(t, r.cm)
+	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote, r.cother)
 }
 
 // reversed replaces the errors of decreasing stations by one when all or
@@ -482,7 +502,20 @@ func (r *sectionReader) point(rec Record) {
 		r.bankLike = append(r.bankLike, rec)
 	}
 	r.sv.Labels = append(r.sv.Labels, mark)
-	r.sv.Notes = append(r.sv.Notes, r.t.Cell(rec, r.cnote))
+	r.sv.Notes = append(r.sv.Notes, joinNotes(r.t.Cell(rec, r.cnote), r.t.Cell(rec, r.cother)))
+}
+
+// joinNotes is a point's note from its note column and the text of the
+// code or description not read as its mark: either when the other is
+// blank, else both, the note first, joined by "; ".
+func joinNotes(note, other string) string {
+	switch {
+	case strings.TrimSpace(other) == "":
+		return note
+	case strings.TrimSpace(note) == "":
+		return strings.TrimSpace(other)
+	}
+	return strings.TrimSpace(note) + "; " + strings.TrimSpace(other)
 }
 
 // shape checks the ground line has two points and some width.
@@ -565,7 +598,7 @@ func (r *sectionReader) unreadBankWarnings() {
 		return
 	}
 	t := r.t
-	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote}
+	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote, r.cother}
 	for c := range t.Header {
 		if slices.Contains(read, c) {
 			continue
