@@ -266,7 +266,11 @@ var (
 // point of an n column or an n column with every cell blank (unless
 // opt.NGiven), a count of bank marks (any of BankWords) other than two
 // (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
-// "right bank" left of the other bank mark). A mark that looks like a
+// "right bank" left of the other bank mark; in a coordinate survey whose
+// left bank the pins, the flow direction or the line given set, marks
+// that all lie the other way are ErrSidesDisagree, naming what set it).
+// The text of a code or description column not read as the marks is
+// kept in the notes (see otherMarkColumn). A mark that looks like a
 // bank's but is not one of BankWords (bankfull, LB toe) is warned about
 // at its cell, unless opt.IgnoreBankMarks. A mark or note column holding
 // a bare digit string after a whole elevation or n on most rows is
@@ -322,11 +326,13 @@ type sectionReader struct {
 	// cother is the column of a code or a description not read as the
 	// marks (see otherMarkColumn), read into the notes; -1 for none.
 	cother int
-	errs           errorList
-	ns             []float64 // n given on each row (NaN blank)
-	bankAt         []int     // indices of points marked bank
-	bankRows       []Record
-	bankLike       []Record // rows whose mark looks like a bank's but is not one of BankWords
+	// copt are the options a coordinate survey was projected with.
+	copt     CoordinateOptions
+	errs     errorList
+	ns       []float64 // n given on each row (NaN blank)
+	bankAt   []int     // indices of points marked bank
+	bankRows []Record
+	bankLike []Record // rows whose mark looks like a bank's but is not one of BankWords
 	// coords reports a coordinate survey, whose easting and northing
 	// columns are cx and cy and whose points' coordinates are east, north.
 	coords      bool
@@ -587,6 +593,11 @@ func (r *sectionReader) banks() error {
 		return t.At(r.bankRows[1], r.cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
 	}
 	a, b := r.bankRows[0], r.bankRows[1]
+	if r.coords {
+		if err := r.sidesDisagree(a, b, t.Cell(a, r.cm), t.Cell(b, r.cm)); err != nil {
+			return err
+		}
+	}
 	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
 }
 
