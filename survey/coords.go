@@ -634,7 +634,7 @@ func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (Projectio
 		return ProjectionReport{}, err
 	}
 	return ProjectionReport{
-		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: []string{sv.ProjectionNote.String()}},
+		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: sv.InputNotes()},
 		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
 	}, nil
 }

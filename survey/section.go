@@ -47,6 +47,20 @@ type Survey struct {
 	ProjectionNote InputNote
 }
 
+// InputNotes are the survey's input notes as lines with their positions:
+// how its stations were made (ProjectionNote), and that its headers name
+// the US survey foot, read as feet (UnitNote.SurveyFootNote); none for a
+// survey by station in metres or feet.
+func (s Survey) InputNotes() []string {
+	var out []string
+	for _, n := range []InputNote{s.ProjectionNote, s.Units.SurveyFootNote()} {
+		if t := n.String(); t != "" {
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
 // Mark returns the mark of point i as written, a bank mark too (the
 // crew's word, "RB" or "left bank", which a survey written from this one
 // keeps so that the side it names is not lost), "" when none or when i
@@ -380,7 +394,7 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	if r.ce, err = t.Require(elevationNames()...); err != nil {
 		return r, err
 	}
-	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
+	if r.sv.Units, err = t.surveyHeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
 		return r, err
 	}
 	if r.cn, err = t.Optional(ColN, "manning_n", "mannings_n"); err != nil {
