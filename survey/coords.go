@@ -29,6 +29,7 @@ const (
 	LeftFromFlow    = "the flow direction given"
 	LeftFromOrder   = "the order of the survey (its first point is the left end)"
 	LeftFromBanks   = "the bank marks naming their sides (the survey's order has them on the other sides)"
+	LeftFromLine    = "the line given (its first point is the left end)"
 	LineFromPins    = "the line through the two end pins"
 	LineGiven       = "the line given"
 	LineFromPrinAx  = "the principal axis of the points (total least squares)"
@@ -95,6 +96,10 @@ var (
 	ErrLineLength = errors.New("the section line has no length")
 	ErrFlowAlong  = errors.New("the flow direction runs along the section line, so it cannot tell left from right")
 	ErrBankSides  = errors.New("the two bank marks name the same side, so they cannot tell left from right")
+	// ErrSidesDisagree: the end pins, the flow direction or the line
+	// given set the left bank, and the bank marks naming a side all lie
+	// the other way.
+	ErrSidesDisagree = errors.New("the bank marks lie on the sides they do not name")
 )
 
 // hasCoordinates reports a header with an easting (or x) and a northing
@@ -333,7 +338,7 @@ func orient(t *Table, rows []Record, e, n []float64, marks []string, opt Coordin
 			flip((e[r]-e[l])**dx+(n[r]-n[l])**dy > 0)
 			pr.Left = LeftFromPins
 		} else {
-			pr.Left = "the line given (its first point is the left end)"
+			pr.Left = LeftFromLine
 		}
 	default:
 		last := len(e) - 1
@@ -426,6 +431,7 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	if len(r.east) < 2 {
 		return nil // shape reports too few points
 	}
+	r.copt = opt
 	st, order, pr, err := projectPoints(r.t, r.records, r.east, r.north, r.sv.Marks, opt)
 	if err != nil {
 		return err
@@ -628,7 +634,67 @@ func Project(path, sheet string, opt CoordinateOptions, u UnitChoice) (Projectio
 		return ProjectionReport{}, err
 	}
 	return ProjectionReport{
-		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: []string{sv.ProjectionNote.String()}},
+		Provenance: rating.Provenance{Inputs: []string{Position(path, sheet)}, Site: sv.Site, Notes: sv.InputNotes()},
 		Survey:     sv, Units: units, Warnings: append([]string(nil), sv.Warnings...),
 	}, nil
+}
+
+// sidesDisagree returns the error of a coordinate survey whose left bank
+// was set by the end pins, the flow direction or the line given, and
+// whose bank marks naming a side all lie the other way (at rows a and b,
+// a the one at the lower station, marks ma and mb): ErrSidesDisagree,
+// naming what set the side (the pins' rows, the azimuth), the marks that
+// disagree, and what to check first. It returns nil when the side came
+// from the survey's order or its marks (bankSidesTurn turned it), or when
+// the marks do not all lie the other way (bankSideError reports them).
+func (r *sectionReader) sidesDisagree(a, b Record, ma, mb string) error {
+	pr, t := r.sv.Projection, r.t
+	sa, _ := readBankMark(ma)
+	sb, _ := readBankMark(mb)
+	if !(sa == rightBank || sb == leftBank) || sa == leftBank || sb == rightBank {
+		return nil
+	}
+	var wrong []string
+	if sa == rightBank {
+		wrong = append(wrong, fmt.Sprintf("%q (row %d) on the left bank", echo(ma), a.Row))
+	}
+	if sb == leftBank {
+		wrong = append(wrong, fmt.Sprintf("%q (row %d) on the right bank", echo(mb), b.Row))
+	}
+	puts := strings.Join(wrong, " and ") + " looking downstream"
+	l, rt, nl, nr := pins(r.sv.Marks)
+	pinsNamed := func() string {
+		return fmt.Sprintf("%q (row %d) and %q (row %d)", echo(r.sv.Marks[l]), r.sv.Rows[l], echo(r.sv.Marks[rt]), r.sv.Rows[rt])
+	}
+	header := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow}
+	switch pr.Left {
+	case LeftFromPins:
+		at := header
+		for _, rec := range t.Records {
+			if rec.Row == r.sv.Rows[l] {
+				at = t.At(rec, r.cm, nil)
+				break
+			}
+		}
+		at.Err = fmt.Errorf("%w: left was taken from the end pins, %s, which put %s; check the pins' labels, or else the bank marks",
+			ErrSidesDisagree, pinsNamed(), puts)
+		return at
+	case LeftFromFlow:
+		flow := fmt.Sprintf("the flow direction given (--flow-azimuth %g)", r.copt.FlowAzimuth)
+		other := math.Mod(r.copt.FlowAzimuth+180, 360)
+		advice := fmt.Sprintf("check the azimuth (the direction the water flows, clockwise from grid north; the marks agree with %g), or else the bank marks", other)
+		switch {
+		case pr.PinsDisagree:
+			advice = fmt.Sprintf("the end pins, %s, agree with the marks: check the azimuth (the direction the water flows, clockwise from grid north; pins and marks agree with %g)", pinsNamed(), other)
+		case nl == 1 && nr == 1:
+			advice = fmt.Sprintf("the end pins, %s, agree with the azimuth: check the bank marks, or else the azimuth and the pins", pinsNamed())
+		}
+		header.Err = fmt.Errorf("%w: left was taken from %s, which puts %s; %s", ErrSidesDisagree, flow, puts, advice)
+		return header
+	case LeftFromLine:
+		header.Err = fmt.Errorf("%w: left was taken from the line given (--line, its first point the left end), which puts %s; check the order of the line's two ends, or else the bank marks",
+			ErrSidesDisagree, puts)
+		return header
+	}
+	return nil
 }

@@ -143,9 +143,7 @@ func Prepare(req SectionRequest) (*Prepared, error) {
 		return nil, err
 	}
 	p := &Prepared{Survey: sv, Units: u, Site: sv.Site, Inputs: []string{req.Path}, Warnings: append([]string(nil), sv.Warnings...)}
-	if n := sv.ProjectionNote.String(); n != "" {
-		p.Notes = []string{n}
-	}
+	p.Notes = sv.InputNotes()
 	p.Ground = rating.Ground{Labels: sv.Labels, Notes: sv.Notes, Source: Position(req.Path, req.Sheet)}
 	sec := sv.Section
 	if req.Banks != nil {

@@ -809,12 +809,25 @@ func (r *Reach) ReachSections(u rating.Units) ([]reach.Section, error) {
 		}
 		out[i] = reach.Section{ID: row.ID, Geometry: g, Distance: row.Distance,
 			Left: row.WSLeft, Right: row.WSRight, Survey: row.Survey, Quality: row.Quality, Note: row.Note,
-			SurveyNote: r.Surveys[i].ProjectionNote.Text,
+			SurveyNote: surveyNoteText(r.Surveys[i]),
 			FlowLengths: subdivide.PerRegion{Left: zeroIfBlank(row.LeftLength), Channel: zeroIfBlank(row.ChannelLength),
 				Right: zeroIfBlank(row.RightLength)}}
 		out[i].MarkSD, _ = row.Quality.MarkSD(u)
 	}
 	return out, nil
+}
+
+// surveyNoteText is a reach section's survey note: the texts of its
+// survey's input notes (how its stations were made, its headers in US
+// survey feet), joined by "; ".
+func surveyNoteText(sv Survey) string {
+	var texts []string
+	for _, n := range []InputNote{sv.ProjectionNote, sv.Units.SurveyFootNote()} {
+		if n.Text != "" {
+			texts = append(texts, n.Text)
+		}
+	}
+	return strings.Join(texts, "; ")
 }
 
 func zeroIfBlank(v float64) float64 {

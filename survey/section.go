@@ -62,6 +62,20 @@ type StationGap struct {
 	Warning string
 }
 
+// InputNotes are the survey's input notes as lines with their positions:
+// how its stations were made (ProjectionNote), and that its headers name
+// the US survey foot, read as feet (UnitNote.SurveyFootNote); none for a
+// survey by station in metres or feet.
+func (s Survey) InputNotes() []string {
+	var out []string
+	for _, n := range []InputNote{s.ProjectionNote, s.Units.SurveyFootNote()} {
+		if t := n.String(); t != "" {
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
 // Mark returns the mark of point i as written, a bank mark too (the
 // crew's word, "RB" or "left bank", which a survey written from this one
 // keeps so that the side it names is not lost), "" when none or when i
@@ -176,6 +190,22 @@ func markColumn(t *Table) (int, error) {
 	return present[0], nil
 }
 
+// otherMarkColumn returns the index of the column of markTiers present in
+// t that is not the mark column cm (-1 for none): of a code and a
+// description, the one not read as the marks. Its text is the crew's
+// (thalweg, rew, rebar) and is kept as the points' note.
+func otherMarkColumn(t *Table, cm int) int {
+	if cm < 0 {
+		return -1
+	}
+	for _, tier := range markTiers() {
+		if c := t.Column(tier...); c >= 0 && c != cm {
+			return c
+		}
+	}
+	return -1
+}
+
 // isBankMark reports a mark read as a bank's (one of BankWords).
 func isBankMark(mark string) bool { _, ok := readBankMark(mark); return ok }
 
@@ -265,7 +295,11 @@ var (
 // point of an n column or an n column with every cell blank (unless
 // opt.NGiven), a count of bank marks (any of BankWords) other than two
 // (ErrBankMarks), a bank mark naming the side it is not on (ErrBankSide:
-// "right bank" left of the other bank mark). A mark that looks like a
+// "right bank" left of the other bank mark; in a coordinate survey whose
+// left bank the pins, the flow direction or the line given set, marks
+// that all lie the other way are ErrSidesDisagree, naming what set it).
+// The text of a code or description column not read as the marks is
+// kept in the notes (see otherMarkColumn). A mark that looks like a
 // bank's but is not one of BankWords (bankfull, LB toe) is warned about
 // at its cell, unless opt.IgnoreBankMarks. A mark or note column holding
 // a bare digit string after a whole elevation or n on most rows is
@@ -318,11 +352,16 @@ type sectionReader struct {
 	sv             Survey
 	cs, ce, cn, cm int
 	cnote          int
-	errs           errorList
-	ns             []float64 // n given on each row (NaN blank)
-	bankAt         []int     // indices of points marked bank
-	bankRows       []Record
-	bankLike       []Record // rows whose mark looks like a bank's but is not one of BankWords
+	// cother is the column of a code or a description not read as the
+	// marks (see otherMarkColumn), read into the notes; -1 for none.
+	cother int
+	// copt are the options a coordinate survey was projected with.
+	copt     CoordinateOptions
+	errs     errorList
+	ns       []float64 // n given on each row (NaN blank)
+	bankAt   []int     // indices of points marked bank
+	bankRows []Record
+	bankLike []Record // rows whose mark looks like a bank's but is not one of BankWords
 	// coords reports a coordinate survey, whose easting and northing
 	// columns are cx and cy and whose points' coordinates are east, north.
 	coords      bool
@@ -370,7 +409,7 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 	if r.ce, err = t.Require(elevationNames()...); err != nil {
 		return r, err
 	}
-	if r.sv.Units, err = t.HeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
+	if r.sv.Units, err = t.surveyHeaderUnits(r.cs, r.cx, r.cy, r.ce); err != nil {
 		return r, err
 	}
 	if r.cn, err = t.Optional(ColN, "manning_n", "mannings_n"); err != nil {
@@ -385,7 +424,8 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 		return r, err
 	}
 	r.cnote = t.Column(ColNote)
-	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote)
+	r.cother = otherMarkColumn(t, r.cm)
+	return r, t.unsavedIn(r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote, r.cother)
 }
 
 // reversed replaces the errors of decreasing stations by one when all or
@@ -497,7 +537,20 @@ func (r *sectionReader) point(rec Record) {
 		r.bankLike = append(r.bankLike, rec)
 	}
 	r.sv.Labels = append(r.sv.Labels, mark)
-	r.sv.Notes = append(r.sv.Notes, r.t.Cell(rec, r.cnote))
+	r.sv.Notes = append(r.sv.Notes, joinNotes(r.t.Cell(rec, r.cnote), r.t.Cell(rec, r.cother)))
+}
+
+// joinNotes is a point's note from its note column and the text of the
+// code or description not read as its mark: either when the other is
+// blank, else both, the note first, joined by "; ".
+func joinNotes(note, other string) string {
+	switch {
+	case strings.TrimSpace(other) == "":
+		return note
+	case strings.TrimSpace(note) == "":
+		return strings.TrimSpace(other)
+	}
+	return strings.TrimSpace(note) + "; " + strings.TrimSpace(other)
 }
 
 // shape checks the ground line has two points and some width.
@@ -569,6 +622,11 @@ func (r *sectionReader) banks() error {
 		return t.At(r.bankRows[1], r.cm, fmt.Errorf("%w: the two bank marks are at the same station", ErrBankMarks))
 	}
 	a, b := r.bankRows[0], r.bankRows[1]
+	if r.coords {
+		if err := r.sidesDisagree(a, b, t.Cell(a, r.cm), t.Cell(b, r.cm)); err != nil {
+			return err
+		}
+	}
 	return bankSideError(t, a, b, r.cm, t.Cell(a, r.cm), t.Cell(b, r.cm), sec.LeftBank, sec.RightBank)
 }
 
@@ -580,7 +638,7 @@ func (r *sectionReader) unreadBankWarnings() {
 		return
 	}
 	t := r.t
-	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote}
+	read := []int{r.cs, r.cx, r.cy, r.ce, r.cn, r.cm, r.cnote, r.cother}
 	for c := range t.Header {
 		if slices.Contains(read, c) {
 			continue

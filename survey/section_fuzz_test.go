@@ -52,6 +52,9 @@ func FuzzParseSection(f *testing.F) {
 		"station,elevation,n,mark\n0,5,0.04,\n1,3,,LB\n2,0,,bankfull\n3,3,,Right Top of Bank\n4,5,,\n",
 		"station,elevation,n,mark\n0,5,0.04,rb\n1,0,,\n2,5,,l.b.\n",
 		"E (ft),N (ft),elevation (ft),n,mark\n0,0,5,0.04,left pin\n3,4,1,,\n6,8,5,,right pin\n",
+		// US survey feet as GNSS exports write them, beside other units.
+		"Easting (US ft),Northing (ftUS),Elevation [US survey ft],n,mark\n0,0,5,0.04,left pin\n3,4,1,,\n6,8,5,,right pin\n",
+		"station (usft),elevation (m)\n0,1\n1,0\n",
 		"station,elev.,elevation\n0,1,1\n1,0,0\n",
 		"site,Kowhai Stream at the ford\nsurveyed,2026-11-20\nstation,elev\n0,1\n1,0\n2,1\n",
 		"station,elevation,note\n0,3,\"riffle crest\n#2 pools, riffle\"\n#2,0,x\n4,3,\n",

@@ -3,6 +3,7 @@ package survey
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 
 	"wetline/rating"
@@ -34,9 +35,34 @@ var unitWords = map[string]rating.Units{
 	"ft/s": rating.US, "ft/ft": rating.US, "lb/ft2": rating.US,
 }
 
+// surveyFootWords are the ways GNSS and survey exports write the US
+// survey foot in a header, as headerUnit returns them: "(US ft)",
+// "(ftUS)", "(US survey ft)", "(usft)" and the spellings alike (common
+// practice of data collectors). A survey's headers may name it (see
+// Table.surveyHeaderUnits): it is read as feet, with an input note.
+var surveyFootWords = []string{"usft", "ftus", "ussurveyft", "ussurveyfeet", "ussurveyfoot", "usfeet", "usfoot"}
+
+// The US survey foot and the international foot, in metres:
+// 1200/3937 m exactly by the Mendenhall order of 1893, and 0.3048 m
+// exactly since 1959; the survey foot was retired by NIST's notice of
+// 2020, effective 2023 (from memory). Their lengths differ by 2 parts
+// per million (SurveyFootPPM), 0.06 mm over a 30 m section.
+const (
+	SurveyFootMetres        = 1200.0 / 3937
+	InternationalFootMetres = 0.3048
+	SurveyFootPPM           = 2
+)
+
+// isSurveyFoot reports a unit of headerUnit's naming the US survey foot
+// (one of surveyFootWords).
+func isSurveyFoot(text string) bool { return slices.Contains(surveyFootWords, text) }
+
 // isLengthUnit reports a unit of headerUnit's that is a length (m, ft,
-// and their spellings in unitWords).
+// and their spellings in unitWords, and the US survey foot).
 func isLengthUnit(text string) bool {
+	if isSurveyFoot(text) {
+		return true
+	}
 	u, ok := unitWords[text]
 	if !ok {
 		return false
@@ -69,13 +95,43 @@ type UnitNote struct {
 	// unit as written there.
 	At   *ParseError
 	Text string
+	// SurveyFoot is the first column naming the US survey foot (position
+	// only; nil for none), read as feet (see SurveyFootNote).
+	SurveyFoot *ParseError
+}
+
+// SurveyFootNote is the input note of headers naming the US survey foot
+// (zero when none does): read as feet, which the survey foot exceeds by 2
+// parts per million, negligible for stations and elevations along one
+// section.
+func (n UnitNote) SurveyFootNote() InputNote {
+	if n.SurveyFoot == nil {
+		return InputNote{}
+	}
+	return InputNote{At: n.SurveyFoot.Position(), Text: fmt.Sprintf(
+		"the header names US survey feet (%s): read as feet (ft); the survey foot, 1200/3937 m, is %d parts per million longer than the international foot, %g m, negligible for stations and elevations along one section; nothing is converted",
+		echo(n.SurveyFoot.Name), SurveyFootPPM, InternationalFootMetres)}
 }
 
 // HeaderUnits reads the units written in the headers of columns cols
 // (indices; negative ones are absent columns and skipped). An unknown
-// unit, or units of two systems, is an error naming the column.
+// unit, or units of two systems, is an error naming the column. The US
+// survey foot is read in a survey's headers only (surveyHeaderUnits):
+// elsewhere it is an unknown unit, with advice.
 func (t *Table) HeaderUnits(cols ...int) (UnitNote, error) {
+	return t.headerUnits(false, cols...)
+}
+
+// surveyHeaderUnits is HeaderUnits for a survey's headers, which may name
+// the US survey foot (one of surveyFootWords): it is read as feet, and
+// UnitNote.SurveyFoot is its first column.
+func (t *Table) surveyHeaderUnits(cols ...int) (UnitNote, error) {
+	return t.headerUnits(true, cols...)
+}
+
+func (t *Table) headerUnits(surveyFoot bool, cols ...int) (UnitNote, error) {
 	var n UnitNote
+	var foot *ParseError
 	for _, c := range cols {
 		if c < 0 || c >= len(t.Header) {
 			continue
@@ -86,6 +142,16 @@ func (t *Table) HeaderUnits(cols ...int) (UnitNote, error) {
 		}
 		at := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: t.Header[c]}
 		u, ok := unitWords[text]
+		switch {
+		case isSurveyFoot(text) && surveyFoot:
+			u, ok = rating.US, true
+			if foot == nil {
+				foot = &ParseError{File: at.File, Sheet: at.Sheet, Row: at.Row, Column: at.Column, Name: at.Name, Text: text}
+			}
+		case isSurveyFoot(text):
+			at.Err = fmt.Errorf("%w (%q: the US survey foot is read in a survey's headers; write ft here, 2 parts per million apart)", ErrUnknownUnit, echo(text))
+			return n, at
+		}
 		if !ok {
 			at.Err = fmt.Errorf("%w (%q)", ErrUnknownUnit, echo(text))
 			return n, at
@@ -98,6 +164,7 @@ func (t *Table) HeaderUnits(cols ...int) (UnitNote, error) {
 			n = UnitNote{Found: true, Units: u, At: at, Text: text}
 		}
 	}
+	n.SurveyFoot = foot
 	return n, nil
 }
 

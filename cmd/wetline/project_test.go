@@ -105,9 +105,9 @@ func TestProjectJSONAndPlan(t *testing.T) {
 }
 
 // How a survey was projected is an input note, not a warning (README,
-// File formats): "input: ..." on the console, whether the CSV goes to
-// standard output or to a file, and input_notes in JSON, never among the
-// warnings.
+// File formats): "input: ..." on the console once, whether the CSV goes
+// to standard output or to a file, and input_notes in JSON, never among
+// the warnings.
 func TestProjectNoteIsInput(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -123,13 +123,16 @@ func TestProjectNoteIsInput(t *testing.T) {
 		if code != 0 {
 			t.Fatalf("%s: exit %d: %s", tc.name, code, errs)
 		}
-		var input, warned bool
+		var inputs int
+		var warned bool
 		for _, l := range strings.Split(errs, "\n") {
-			input = input || strings.HasPrefix(l, "input: "+larchCoords+":") && strings.Contains(l, note)
+			if strings.HasPrefix(l, "input: "+larchCoords+":") && strings.Contains(l, note) {
+				inputs++
+			}
 			warned = warned || strings.HasPrefix(l, "warning: ") && strings.Contains(l, note)
 		}
-		if !input {
-			t.Errorf("%s: no input line with the projection:\n%s", tc.name, errs)
+		if inputs != 1 {
+			t.Errorf("%s: %d input lines with the projection, want one:\n%s", tc.name, inputs, errs)
 		}
 		if warned {
 			t.Errorf("%s: the projection is warned of:\n%s", tc.name, errs)

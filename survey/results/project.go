@@ -155,14 +155,14 @@ func WriteProjectionJSON(w io.Writer, rep survey.ProjectionReport) error {
 }
 
 // WriteProjectionSummary writes the console lines after a projection was
-// written to a file: what was written, the input notes ("input: ..."),
-// the warnings and the caution.
+// written to a file: what was written, the warnings and the caution (the
+// input notes, "input: ...", come before it, from the one writer of the
+// console's notes).
 func WriteProjectionSummary(w io.Writer, rep survey.ProjectionReport, output string) error {
 	bw := bufio.NewWriter(w)
 	pr := rep.Survey.Projection
 	fmt.Fprintf(bw, "wrote %s: %d points of %s projected onto %s, left bank from %s; farthest off the line %s %s\n",
 		output, len(rep.Survey.Section.Points), rep.Survey.Section.Name, pr.Line, pr.Left, FormatLength(pr.MaxOffset), rep.Units.Length())
-	writeInputNotes(bw, rep.Provenance.Notes)
 	return endSummary(bw, rep.Warnings)
 }
 
