@@ -5,6 +5,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"regexp"
 	"runtime"
 	"strings"
 	"testing"
@@ -99,5 +100,50 @@ func TestLongLineMemory(t *testing.T) {
 	// The stream holds a line of at most MaxLineBytes and its buffer.
 	if limit := uint64(8 * MaxLineBytes); stream > limit {
 		t.Errorf("stream: allocated %d bytes, want at most %d", stream, limit)
+	}
+}
+
+// A workbook cell, or shared string, with more text than a cell can hold
+// (32 767 characters, Microsoft's Excel specifications and limits) is
+// refused by the sheet's scan at its row, before the spreadsheet library
+// reads it whole (a 400 MB cell took 1.9 GB); a full cell is read.
+func TestLongCellRefused(t *testing.T) {
+	t.Parallel()
+	long := strings.Repeat("&amp;", maxTextRun/5+1)
+	for _, c := range []struct {
+		name, part, want string
+		edit             func(string) string
+	}{
+		{"inline string", "xl/worksheets/sheet1.xml", "field.xlsx['s'] row 3: ", func(x string) string {
+			return regexp.MustCompile(`<c r="C3"[^>]*>(<v>[^<]*</v>)?</c>`).ReplaceAllString(x, `<c r="C3" t="inlineStr"><is><t>`+long+`</t></is></c>`)
+		}},
+		{"shared string", "xl/sharedStrings.xml", "field.xlsx['s']: ", func(x string) string {
+			return strings.Replace(x, "<t>n</t>", "<t>"+long+"</t>", 1)
+		}},
+	} {
+		path := writeBook(t, t.TempDir(), map[string][][]any{"s": {{"station", "elevation", "n"}, {0, 104, 0.04}, {10, 100, 0.04}, {20, 101, 0.04}}}, []string{"s"})
+		data := rewriteZip(t, readFile(t, path), func(name string, b []byte) []byte {
+			if name == c.part {
+				edited := c.edit(string(b))
+				if edited == string(b) {
+					t.Fatalf("%s: %s not edited", c.name, name)
+				}
+				return []byte(edited)
+			}
+			return b
+		})
+		if err := os.WriteFile(path, data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadTable(path, "s")
+		if !errors.Is(err, ErrLongCell) || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: %v, want ErrLongCell at %q", c.name, err, c.want)
+		}
+	}
+	full := strings.Repeat("é", 32767)
+	path := writeBook(t, t.TempDir(), map[string][][]any{"s": {{"station", "elevation", "note"}, {0, 104, full}, {10, 100, "<&>" + full[:1000]}}}, []string{"s"})
+	tab, err := ReadTable(path, "s")
+	if err != nil || len(tab.Records) != 2 || tab.Records[0].Cells[2] != full {
+		t.Errorf("a cell of 32 767 characters: %v, want it read", err)
 	}
 }
