@@ -167,7 +167,37 @@ func checkZipDirectory(r io.ReaderAt, size int64) (*zip.Reader, error) {
 			return nil, fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 		}
 	}
+	if book := workbookPart(zr); !slices.ContainsFunc(zr.File, func(f *zip.File) bool { return f.Name == book }) {
+		return nil, fmt.Errorf("%w (%s)", ErrNoWorkbookPart, book)
+	}
 	return zr, nil
+}
+
+// ErrNoWorkbookPart is the cause of a zip archive read as a workbook that
+// holds no workbook part (the part its package relationships name as
+// the office document, normally xl/workbook.xml; ECMA-376 part 2): some
+// other zip file, or a workbook with its main part lost.
+var ErrNoWorkbookPart = errors.New("not a workbook: the zip archive holds no workbook part")
+
+// workbookPart returns the name of a workbook's main part, as its
+// package relationships (_rels/.rels) name it, xl/workbook.xml when they
+// do not.
+func workbookPart(zr *zip.Reader) string {
+	var rels struct {
+		Rel []struct {
+			Type   string `xml:"Type,attr"`
+			Target string `xml:"Target,attr"`
+		} `xml:"Relationship"`
+	}
+	book := "xl/workbook.xml"
+	if err := readXML(zr, "_rels/.rels", &rels); err == nil {
+		for _, r := range rels.Rel {
+			if strings.HasSuffix(r.Type, "/officeDocument") {
+				book = path.Clean(strings.TrimPrefix(r.Target, "/"))
+			}
+		}
+	}
+	return book
 }
 
 // isWorksheetPart reports a zip entry that holds a worksheet.
@@ -892,14 +922,7 @@ func sheetParts(zr *zip.Reader) (map[string]string, error) {
 		}
 		return path.Join(dir, target)
 	}
-	book := "xl/workbook.xml"
-	if err := readXML(zr, "_rels/.rels", &rels); err == nil {
-		for _, r := range rels.Rel {
-			if strings.HasSuffix(r.Type, "/officeDocument") {
-				book = part("", r.Target)
-			}
-		}
-	}
+	book := workbookPart(zr)
 	var wb struct {
 		Sheets []struct {
 			Name string `xml:"name,attr"`
