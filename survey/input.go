@@ -274,7 +274,7 @@ func sniffText(data []byte, name string) error {
 
 // sniffKind refuses a file whose head (its first sniffBytes, after a
 // byte-order mark) shows it is no text table: a workbook, UTF-16 text,
-// binary data or JSON.
+// binary data (at the line and field of its first NUL byte) or JSON.
 func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
@@ -288,7 +288,8 @@ func sniffKind(head []byte, name string) error {
 		if utf16Like(head) {
 			return fail(ErrUTF16)
 		}
-		return fail(ErrBinary)
+		row, col := textPosition(head, bytes.IndexByte(head, 0))
+		return &ParseError{File: name, Row: row, Column: col, Err: fmt.Errorf("%w: a NUL byte in this field", ErrBinary)}
 	case jsonLike(head):
 		return fail(ErrJSONInput)
 	}
