@@ -192,7 +192,9 @@ const Stdin = "-"
 // regular file is refused without blocking (a pipe is opened without
 // waiting for a writer), and so is a file larger than the limit. The
 // reader returned gives at most the limit plus one byte, so a standard
-// input too long is seen as such.
+// input too long is seen as such. A file that cannot be opened is a
+// ParseError naming it, its cause the system's (x.csv: no such file or
+// directory; errors.Is finds fs.ErrNotExist).
 func openInput(path string) (io.ReadCloser, int64, error) {
 	lim, err := EnvLimits()
 	if err != nil {
@@ -202,6 +204,9 @@ func openInput(path string) (io.ReadCloser, int64, error) {
 		return io.NopCloser(io.LimitReader(os.Stdin, lim.Bytes+1)), -1, nil
 	}
 	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if pe := (*os.PathError)(nil); errors.As(err, &pe) {
+		return nil, 0, &ParseError{File: path, Err: pe.Err} // x.csv: no such file or directory
+	}
 	if err != nil {
 		return nil, 0, err
 	}
