@@ -125,6 +125,42 @@ func FoldWalls(subs []subdivide.SubWetted) []subdivide.SubWetted {
 	return out
 }
 
+// FoldedWallWarnings words, for each vertical wall with its own n (a
+// subsection of no width, Subsection.Wall ≠ 0) that water up to maxStage
+// reaches, that the split does not make it a subsection: FoldWalls counts
+// its wetted perimeter in the subsection it faces, with the
+// Horton–Einstein composite of the two n. pts is the ground line the
+// subsections were cut from (the wall's foot and top are its lowest and
+// highest points at the wall's station); nil when there is none.
+//
+// Reference:
+//
+//	Chow, V.T., 1959, Open-Channel Hydraulics: McGraw-Hill, section 6-7
+//	(composite roughness, Horton–Einstein).
+func FoldedWallWarnings(subs []subdivide.Subsection, pts []subdivide.Point, maxStage float64, u Units) []string {
+	var out []string
+	for i, s := range subs {
+		j := i + s.Wall
+		if s.Wall == 0 || j < 0 || j >= len(subs) {
+			continue
+		}
+		foot, top := math.Inf(1), math.Inf(-1)
+		for _, p := range pts {
+			if p.Station == s.From {
+				foot, top = math.Min(foot, p.Elevation), math.Max(top, p.Elevation)
+			}
+		}
+		if !(maxStage > foot) {
+			continue
+		}
+		t := subs[j]
+		out = append(out, fmt.Sprintf("the vertical wall at station %g %s (elevation %g to %g %s, n %g) holds no water of its own, so it is not a subsection: "+
+			"its wetted perimeter is counted in the subsection it faces (stations %g to %g %s, n %g), whose n becomes the Horton–Einstein composite of the two by wetted perimeter (Chow 1959, section 6-7)",
+			s.From, u.Length(), foot, top, u.Length(), s.N, t.From, t.To, u.Length(), t.N))
+	}
+	return out
+}
+
 // Conveyance returns Manning's conveyance K = (k/n)·A·R^(2/3) of a single
 // subsection with area a, wetted perimeter p and roughness n; zero when dry.
 //

@@ -157,7 +157,9 @@ func finiteAll(v ...float64) bool {
 // opt.Units), with opt.Composite merging the n of each region first.
 // Stages may come in any order; rows keep that order. A stage below the
 // lowest ground gives a dry row; a stage above an end extends the section
-// with a vertical wall, counted in the table's warnings.
+// with a vertical wall, counted in the table's warnings. A vertical wall
+// of the survey with its own n conveys with the subsection it faces
+// (FoldWalls), which the warnings say (FoldedWallWarnings).
 //
 // A *subdivide.Profile is rated in one sweep over the sorted stages
 // (subdivide.Profile.Sweep); any other geometry stage by stage with At.
@@ -230,6 +232,9 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
 	if w := AlternatingChannelWarning(t.Subsections, groundPoints(g)); w != "" && opt.Composite == Split {
 		t.Warnings = append(t.Warnings, w)
+	}
+	if opt.Composite == Split {
+		t.Warnings = append(t.Warnings, FoldedWallWarnings(t.Subsections, groundPoints(g), maxStage, opt.Units)...)
 	}
 	return t, nil
 }

@@ -65,7 +65,11 @@ func checkWorkbookZip(r io.ReaderAt, size int64) error {
 	if err != nil {
 		return err
 	}
-	return scanEverySheet(zr, bookFacts{styles: markedStyles(zr), strings: sharedStringCount(zr)})
+	count, err := sharedStringCount(zr)
+	if err != nil {
+		return err
+	}
+	return scanEverySheet(zr, bookFacts{styles: markedStyles(zr), strings: count})
 }
 
 // bookFacts are what the scan of a sheet needs to know of its workbook:
@@ -163,7 +167,37 @@ func checkZipDirectory(r io.ReaderAt, size int64) (*zip.Reader, error) {
 			return nil, fmt.Errorf("%w: unpacks to more than %d bytes", ErrWorkbookZip, int64(MaxWorkbookBytes))
 		}
 	}
+	if book := workbookPart(zr); !slices.ContainsFunc(zr.File, func(f *zip.File) bool { return f.Name == book }) {
+		return nil, fmt.Errorf("%w (%s)", ErrNoWorkbookPart, book)
+	}
 	return zr, nil
+}
+
+// ErrNoWorkbookPart is the cause of a zip archive read as a workbook that
+// holds no workbook part (the part its package relationships name as
+// the office document, normally xl/workbook.xml; ECMA-376 part 2): some
+// other zip file, or a workbook with its main part lost.
+var ErrNoWorkbookPart = errors.New("not a workbook: the zip archive holds no workbook part")
+
+// workbookPart returns the name of a workbook's main part, as its
+// package relationships (_rels/.rels) name it, xl/workbook.xml when they
+// do not.
+func workbookPart(zr *zip.Reader) string {
+	var rels struct {
+		Rel []struct {
+			Type   string `xml:"Type,attr"`
+			Target string `xml:"Target,attr"`
+		} `xml:"Relationship"`
+	}
+	book := "xl/workbook.xml"
+	if err := readXML(zr, "_rels/.rels", &rels); err == nil {
+		for _, r := range rels.Rel {
+			if strings.HasSuffix(r.Type, "/officeDocument") {
+				book = path.Clean(strings.TrimPrefix(r.Target, "/"))
+			}
+		}
+	}
+	return book
 }
 
 // isWorksheetPart reports a zip entry that holds a worksheet.
@@ -225,7 +259,11 @@ func (s *sheetScanner) scan(sheet string) (sheetScan, error) {
 		return sc, nil
 	}
 	if !s.styled {
-		s.facts = bookFacts{styles: markedStyles(s.zr), strings: sharedStringCount(s.zr)}
+		count, err := sharedStringCount(s.zr)
+		if err != nil {
+			return sheetScan{}, err
+		}
+		s.facts = bookFacts{styles: markedStyles(s.zr), strings: count}
 		s.styled = true
 	}
 	if s.parts == nil {
@@ -389,7 +427,7 @@ func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 		return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
 	}
 	defer rc.Close()
-	sc := tagScanner{br: bufio.NewReaderSize(rc, 64<<10)}
+	sc := tagScanner{br: bufio.NewReaderSize(&textRunReader{r: rc}, 64<<10)}
 	var last, row, col int64
 	var lastRef []byte // the reference of the row's last cell, as written
 	inCell, formula, value, text, shared := false, false, false, false, false
@@ -403,6 +441,9 @@ func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 		tag, err := sc.next()
 		if err == io.EOF {
 			return out, nil
+		}
+		if errors.Is(err, ErrLongCell) {
+			return out, &scanError{row: int(row), err: fmt.Errorf("%w (%s)", err, f.Name)}
 		}
 		if err != nil {
 			return out, fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
@@ -501,6 +542,47 @@ func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 	}
 }
 
+// ErrLongCell is the cause of a sheet, or a workbook's shared strings,
+// holding more text between two tags than a cell can: a workbook's cell
+// holds at most 32 767 characters, and a formula 8 192 (Microsoft, Excel
+// specifications and limits), each character at most 10 bytes of XML as
+// a character reference, so a run of maxTextRun bytes is no workbook a
+// spreadsheet program wrote. Read, such a cell would take memory many
+// times its size.
+var ErrLongCell = errors.New("a cell longer than a workbook's cell can be (32 767 characters): the workbook is damaged or forged")
+
+// maxTextRun bounds the bytes of a workbook part's XML between two tags
+// (see ErrLongCell).
+const maxTextRun = 1 << 20
+
+// textRunReader reads a workbook part's XML, failing with ErrLongCell
+// once more than maxTextRun bytes follow one '<' without another.
+type textRunReader struct {
+	r   io.Reader
+	run int // the bytes since the last '<'
+}
+
+func (t *textRunReader) Read(p []byte) (int, error) {
+	n, err := t.r.Read(p)
+	for off := 0; off < n; {
+		end := n
+		if i := bytes.IndexByte(p[off:n], '<'); i >= 0 {
+			end = off + i
+		}
+		if t.run+end-off > maxTextRun {
+			// The bytes up to the limit, within the run, and no more: the
+			// reader stops inside the cell that is too long.
+			return off + maxTextRun - t.run + 1, ErrLongCell
+		}
+		if end == n {
+			t.run += n - off
+			break
+		}
+		t.run, off = 0, end+1
+	}
+	return n, err
+}
+
 // xmlDamage parses a worksheet's XML to its end as the spreadsheet
 // library does (encoding/xml, strict), and returns an ErrWorkbookDamaged
 // (a *scanError with no row) saying after which row the XML stops
@@ -514,12 +596,15 @@ func xmlDamage(f *zip.File) error {
 		return fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err)
 	}
 	defer rc.Close()
-	d := xml.NewDecoder(bufio.NewReaderSize(rc, 64<<10))
+	d := xml.NewDecoder(bufio.NewReaderSize(&textRunReader{r: rc}, 64<<10))
 	var done, open int64 // the last row ended, the row begun
 	for {
 		tok, err := d.Token()
 		if err == io.EOF {
 			return nil
+		}
+		if errors.Is(err, ErrLongCell) {
+			return &scanError{row: int(open), err: fmt.Errorf("%w (%s)", err, f.Name)}
 		}
 		if se := (*xml.SyntaxError)(nil); err != nil && !errors.As(err, &se) {
 			return fmt.Errorf("%w: %s: %w", ErrWorkbookZip, f.Name, err) // the part cannot be unpacked
@@ -585,20 +670,25 @@ func sharedStringError(row, col int64, v string, count int64) error {
 // sharedStringCount returns how many strings the shared string table of
 // a workbook holds (its si elements; the count it claims is not trusted),
 // 0 when it has none or it cannot be read. The part is found as the
-// workbook's relationships name it (normally xl/sharedStrings.xml).
-func sharedStringCount(zr *zip.Reader) int64 {
+// workbook's relationships name it (normally xl/sharedStrings.xml). A
+// string longer than a cell can hold is an error (ErrLongCell), found
+// before the spreadsheet library would read it whole.
+func sharedStringCount(zr *zip.Reader) (int64, error) {
 	name := relatedPart(zr, "/sharedStrings", "xl/sharedStrings.xml")
 	f, err := zr.Open(name)
 	if err != nil {
-		return 0
+		return 0, nil
 	}
 	defer f.Close()
-	sc := tagScanner{br: bufio.NewReaderSize(f, 64<<10)}
+	sc := tagScanner{br: bufio.NewReaderSize(&textRunReader{r: f}, 64<<10)}
 	var n int64
 	for {
 		tag, err := sc.next()
+		if errors.Is(err, ErrLongCell) {
+			return n, fmt.Errorf("%w (%s, string %d)", err, name, n)
+		}
 		if err != nil {
-			return n
+			return n, nil
 		}
 		if !tag.end && string(tag.name) == "si" {
 			n++
@@ -832,14 +922,7 @@ func sheetParts(zr *zip.Reader) (map[string]string, error) {
 		}
 		return path.Join(dir, target)
 	}
-	book := "xl/workbook.xml"
-	if err := readXML(zr, "_rels/.rels", &rels); err == nil {
-		for _, r := range rels.Rel {
-			if strings.HasSuffix(r.Type, "/officeDocument") {
-				book = part("", r.Target)
-			}
-		}
-	}
+	book := workbookPart(zr)
 	var wb struct {
 		Sheets []struct {
 			Name string `xml:"name,attr"`

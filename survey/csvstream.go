@@ -16,7 +16,8 @@ import (
 // refused as ParseCSV refuses it (see sniffText): what the head of the
 // file shows (a workbook, UTF-16, binary data, tabs) at the first record,
 // a byte of another encoding at its line and field, carriage returns
-// alone at the first line.
+// alone at the first line. A record longer than MaxLineBytes (a line, or
+// the lines a quoted cell joins) is refused as it is read (ErrLongLine).
 // A line without a quote is split at its commas in place; a record with
 // quotes is handed to encoding/csv, so quoting follows RFC 4180 exactly.
 // The fields returned are valid until the next call.
@@ -71,8 +72,14 @@ func (c *csvStream) readLine() ([]byte, error) {
 	if err == bufio.ErrBufferFull {
 		c.long = append(c.long[:0], line...)
 		for err == bufio.ErrBufferFull {
+			if len(c.long) > MaxLineBytes {
+				return nil, longLineError(c.name, c.line+1)
+			}
 			line, err = c.br.ReadSlice('\n')
 			c.long = append(c.long, line...)
+		}
+		if len(bytes.TrimRight(c.long, "\r\n")) > MaxLineBytes {
+			return nil, longLineError(c.name, c.line+1)
 		}
 		line = c.long
 	}
@@ -197,10 +204,17 @@ func (c *csvStream) quoted(first []byte) error {
 			break
 		}
 		if err != nil {
+			var pe *ParseError
+			if errors.As(err, &pe) {
+				return err
+			}
 			return &ParseError{File: c.name, Err: err}
 		}
 		chunk = append(append(chunk, '\n'), line...)
 		quotes += bytes.Count(line, []byte{'"'})
+		if len(chunk) > MaxLineBytes {
+			return longLineError(c.name, start)
+		}
 	}
 	if err := utf8Error(chunk, c.name, start); err != nil {
 		return err

@@ -69,7 +69,71 @@ var (
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
 	ErrJSONInput       = errors.New("is JSON, not a table: give the CSV table (or the workbook) the report was written beside")
 	ErrOpenDocument    = errors.New("is an OpenDocument spreadsheet (.ods), which is not read: save it as an Excel workbook (.xlsx) or as CSV")
+	ErrLongLine        = errors.New("a line longer than the limit")
 )
+
+// MaxLineBytes bounds one record of a CSV file: a line, with the lines a
+// quoted cell joins to it. A row of a survey, gaugings or a stage record
+// is under a hundred bytes, and a workbook's cell holds at most 32 767
+// characters (Microsoft, Excel specifications and limits), so a record
+// of a mebibyte is no table's row; refusing it as it is read keeps one
+// long line (a file of commas, say) from taking memory many times its
+// size in fields.
+const MaxLineBytes = 1 << 20
+
+// longLineError is the ParseError (ErrLongLine) of a CSV record starting
+// at line of file name that is longer than MaxLineBytes.
+func longLineError(name string, line int) *ParseError {
+	return &ParseError{File: name, Row: line,
+		Err: fmt.Errorf("%w of %d bytes (1 MiB) for one CSV record: no table's row is so long, so the file is damaged or not a table", ErrLongLine, MaxLineBytes)}
+}
+
+// longRecord returns the line where the first record of CSV text longer
+// than MaxLineBytes starts, or 0. A record ends at a line end outside
+// double quotes, quotes counted as encoding/csv pairs them in a table
+// that parses (an escaped quote, "", counts twice); a quote out of place
+// may join the rest of the file into one record, which is then refused
+// here at the line of that quote.
+func longRecord(data []byte) int {
+	line, start := 1, 0
+	if bytes.IndexByte(data, '"') < 0 {
+		for start < len(data) {
+			end := bytes.IndexByte(data[start:], '\n')
+			if end < 0 {
+				end = len(data) - start
+			}
+			if end > MaxLineBytes {
+				return line
+			}
+			start += end + 1
+			line++
+		}
+		return 0
+	}
+	recLine, quoted := 1, false
+	for i := 0; ; i++ {
+		j := bytes.IndexAny(data[i:], "\"\n")
+		if j < 0 {
+			i = len(data)
+		} else {
+			i += j
+		}
+		if i-start > MaxLineBytes {
+			return recLine
+		}
+		switch {
+		case i == len(data):
+			return 0
+		case data[i] == '"':
+			quoted = !quoted
+		default:
+			line++
+			if !quoted {
+				start, recLine = i+1, line
+			}
+		}
+	}
+}
 
 // ErrLimitValue is the cause of a limit variable (EnvMaxBytes, EnvMaxRows,
 // EnvMaxCells, EnvMaxReadings) set to a value that cannot be used.
@@ -128,7 +192,9 @@ const Stdin = "-"
 // regular file is refused without blocking (a pipe is opened without
 // waiting for a writer), and so is a file larger than the limit. The
 // reader returned gives at most the limit plus one byte, so a standard
-// input too long is seen as such.
+// input too long is seen as such. A file that cannot be opened is a
+// ParseError naming it, its cause the system's (x.csv: no such file or
+// directory; errors.Is finds fs.ErrNotExist).
 func openInput(path string) (io.ReadCloser, int64, error) {
 	lim, err := EnvLimits()
 	if err != nil {
@@ -138,6 +204,9 @@ func openInput(path string) (io.ReadCloser, int64, error) {
 		return io.NopCloser(io.LimitReader(os.Stdin, lim.Bytes+1)), -1, nil
 	}
 	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
+	if pe := (*os.PathError)(nil); errors.As(err, &pe) {
+		return nil, 0, &ParseError{File: path, Err: pe.Err} // x.csv: no such file or directory
+	}
 	if err != nil {
 		return nil, 0, err
 	}
@@ -163,12 +232,17 @@ func readInput(path string) ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
-	r, _, err := openInput(path)
+	r, size, err := openInput(path)
 	if err != nil {
 		return nil, err
 	}
 	defer r.Close()
-	data, err := io.ReadAll(r)
+	var buf bytes.Buffer
+	if size >= 0 {
+		buf.Grow(int(size) + bytes.MinRead) // read at once, not by doubling
+	}
+	_, err = buf.ReadFrom(r)
+	data := buf.Bytes()
 	if err != nil {
 		return nil, &ParseError{File: path, Err: err}
 	}
@@ -205,7 +279,7 @@ func sniffText(data []byte, name string) error {
 
 // sniffKind refuses a file whose head (its first sniffBytes, after a
 // byte-order mark) shows it is no text table: a workbook, UTF-16 text,
-// binary data or JSON.
+// binary data (at the line and field of its first NUL byte) or JSON.
 func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
@@ -219,7 +293,8 @@ func sniffKind(head []byte, name string) error {
 		if utf16Like(head) {
 			return fail(ErrUTF16)
 		}
-		return fail(ErrBinary)
+		row, col := textPosition(head, bytes.IndexByte(head, 0))
+		return &ParseError{File: name, Row: row, Column: col, Err: fmt.Errorf("%w: a NUL byte in this field", ErrBinary)}
 	case jsonLike(head):
 		return fail(ErrJSONInput)
 	}

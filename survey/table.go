@@ -113,7 +113,7 @@ func readTable(path, sheet, prefer string) (*Table, error) {
 	if sheet != "" {
 		return nil, &ParseError{File: path, Err: errors.New("a sheet can be named only for a workbook (.xlsx)")}
 	}
-	return ParseCSV(bytes.NewReader(data), path)
+	return parseCSVData(data, path)
 }
 
 // preferSheet returns sheet, or when it is "" the sheet named prefer
@@ -636,19 +636,32 @@ func (b *tableBuilder) row(rec []string, row int) error {
 // column are dropped, a value there is an error at its cell
 // (ErrBeyondHeader). A quote out of place is an error at the row where
 // its field starts and at that field (see csvSyntaxError). A table beyond
-// the limits (see Limits) is an error that says the limit.
+// the limits (see Limits) is an error that says the limit, and so is a
+// record longer than MaxLineBytes (ErrLongLine, at its line), refused
+// before its fields are split.
 func ParseCSV(r io.Reader, name string) (*Table, error) {
-	b, err := newTableBuilder(name, "")
-	if err != nil {
+	if _, err := EnvLimits(); err != nil {
 		return nil, err
 	}
 	data, err := io.ReadAll(r)
 	if err != nil {
 		return nil, &ParseError{File: name, Err: err}
 	}
+	return parseCSVData(data, name)
+}
+
+// parseCSVData is ParseCSV of text held in memory, which it does not copy.
+func parseCSVData(data []byte, name string) (*Table, error) {
+	b, err := newTableBuilder(name, "")
+	if err != nil {
+		return nil, err
+	}
 	data = bytes.TrimPrefix(data, []byte("\ufeff"))
 	if err := sniffText(data, name); err != nil {
 		return nil, err
+	}
+	if line := longRecord(data); line > 0 {
+		return nil, longLineError(name, line)
 	}
 	if data, err = dropSeparatorHint(data, name); err != nil {
 		return nil, err

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	iofs "io/fs"
 	"math"
 	"os"
 	"path/filepath"
@@ -15,6 +16,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/record"
+	"wetline/survey"
 	"wetline/survey/output"
 )
 
@@ -85,6 +87,7 @@ func (fs *flagSet) parse(e *env, args []string) error {
 	if bad != nil {
 		return bad
 	}
+	e.flags = fs
 	if err := fs.oneStdin(); err != nil {
 		return err
 	}
@@ -167,6 +170,54 @@ func (fs *flagSet) stdinPlaces() []string {
 		}
 	})
 	return places
+}
+
+// missingInput names the flag of an input that could not be opened
+// because it does not exist or may not be read: err, when it is such an
+// error for a path (a *survey.ParseError naming the file, or an
+// *fs.PathError) that an input flag (marked with input) was given, is
+// returned as "COMMAND --FLAG: err", so the message says which input it
+// is, as a usage error names its flag. Any other error, and every error
+// when fs is nil, is returned as it is. An input given as an argument is
+// named by its path alone.
+func (fs *flagSet) missingInput(err error) error {
+	if fs == nil || !(errors.Is(err, iofs.ErrNotExist) || errors.Is(err, iofs.ErrPermission)) {
+		return err
+	}
+	var path string
+	if pe := (*survey.ParseError)(nil); errors.As(err, &pe) {
+		path = pe.File
+	} else if pe := (*iofs.PathError)(nil); errors.As(err, &pe) {
+		path = pe.Path
+	}
+	if path == "" || path == "-" {
+		return err
+	}
+	var place string
+	fs.VisitAll(func(f *pflag.Flag) {
+		if place != "" || len(f.Annotations[inputKey]) == 0 || !f.Changed {
+			return
+		}
+		values := []string{f.Value.String()}
+		if sv, ok := f.Value.(pflag.SliceValue); ok {
+			values = sv.GetSlice()
+		}
+		prefix := f.Annotations[inputKey][0]
+		for _, v := range values {
+			v, ok := strings.CutPrefix(v, prefix)
+			if !ok {
+				continue
+			}
+			if v == path || (strings.HasPrefix(v, path+"@") && path != "") { // FILE@TIME
+				place = flagWords(f)
+				return
+			}
+		}
+	})
+	if place == "" {
+		return err
+	}
+	return fmt.Errorf("%s %s: %w", fs.Name(), place, err)
 }
 
 // Kinds of path an output flag names (see output).

@@ -76,6 +76,9 @@ type env struct {
 	// file, when it is redirected from one, is protected once a command
 	// reads standard input.
 	stdin os.FileInfo
+	// flags is the command's parsed flag set (nil before parsing), for
+	// naming the flag of an input that cannot be opened (missingInput).
+	flags *flagSet
 }
 
 // newEnv returns an environment writing to stdout and stderr.
@@ -350,6 +353,7 @@ func run(ctx context.Context, e *env, args []string) error {
 	err := c.run(ctx, e, args[1:])
 	if err != nil {
 		e.files.Discard() // a failed run leaves no output
+		err = e.flags.missingInput(err)
 		var ue usageError
 		if errors.As(err, &ue) && ue.cmd == "" {
 			err = usageError{err: err, cmd: name}

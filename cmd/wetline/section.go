@@ -87,7 +87,7 @@ func (sf *sectionFlags) register(fs *flagSet) {
 	connectedFlag(fs)
 	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
 	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
-	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n), horton, pavlovskii or lotter")
+	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n; a vertical wall's perimeter joins the subsection it faces, Horton–Einstein n), horton, pavlovskii or lotter")
 	sf.coords.register(fs, true)
 	fs.StringVar(&sf.site, "site", "", siteUsage)
 }

@@ -23,6 +23,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 	units := fs.String("units", "si", "units named in the headers: si (m, m3/s) or us (ft, ft3/s); default: the units in the first --survey headers that name any, else si")
 	surveys := fs.StringArray("survey", nil, "prefill a cross-section sheet from this survey (CSV, or a workbook's first visible sheet); repeatable")
 	site := fs.String("site", "", "the site's name, written in the site block of every cross-section sheet")
+	fs.input("survey")
 	if err := fs.parse(e, args); err != nil {
 		return err
 	}
