@@ -79,7 +79,7 @@ func (d *demo) fitFiles(bayes, lsq *gauged.Report) error {
 		{"tallow-fit.txt", fmt.Sprintf("Bayesian fit of %d controls with priors from the section (standard error %.1f %%), both bands on every row",
 			len(bayes.Fit.Controls), bayes.Fit.StandardErrorPercent), bayes, results.WriteFitText},
 		{"tallow-fit.json", "the same report as JSON", bayes, results.WriteFitJSON},
-		{"tallow-fit-table.csv", "its table: both 95 % bands and the multiple of the largest gauging on every row", bayes, results.WriteFitCSV},
+		{"tallow-fit-table.csv", "its table: both 95 % bands on every row, and the multiple of the largest gauging above it", bayes, results.WriteFitCSV},
 		{"tallow-fit-lsq.txt", fmt.Sprintf("least-squares fit, extended by conveyance-slope (standard error %.1f %%)", lsq.Fit.StandardErrorPercent), lsq, results.WriteFitText},
 	} {
 		rep, write := f.rep, f.write

@@ -436,6 +436,45 @@ func TestReadmeJSONKeys(t *testing.T) {
 	}
 }
 
+// readmeSolveMode matches, in the README's Outputs row of solve, the keys
+// documented for one of its other modes: the flag and the keys.
+var readmeSolveMode = regexp.MustCompile("with `(--area|--stage)`: `([^`]+)`")
+
+// TestReadmeSolveModesJSONKeys checks the JSON keys the README documents
+// for solve with --area and with --stage come first in those reports.
+func TestReadmeSolveModesJSONKeys(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	var row string
+	for _, m := range readmeOutputRow.FindAllStringSubmatch(readme(t), -1) {
+		if m[1] == "solve" {
+			row = m[0]
+		}
+	}
+	row = readme(t)[strings.Index(readme(t), row):]
+	row = row[:strings.Index(row, "\n")]
+	modes := readmeSolveMode.FindAllStringSubmatch(row, -1)
+	if len(modes) != 2 {
+		t.Fatalf("README Outputs, solve: %d other modes documented, want --area and --stage: %s", len(modes), row)
+	}
+	value := map[string][]string{"--area": {"--area", "10"}, "--stage": {"--stage", "101.5", "--slope", "0.0012"}}
+	for _, m := range modes {
+		args := append([]string{"solve", filepath.Join(dir, "tallow-xs1.csv"), "--format", "json"}, value[m[1]]...)
+		out, errs, code := runCLI(t, args...)
+		if code != 0 {
+			t.Fatalf("solve %s: exit %d: %s", m[1], code, errs)
+		}
+		got := jsonKeys(t, []byte(out))
+		var want []string
+		for _, k := range strings.Split(m[2], ",") {
+			want = append(want, strings.TrimSpace(k))
+		}
+		if len(got) < len(want) || !slices.Equal(got[:len(want)], want) {
+			t.Errorf("README Outputs, solve %s: documents JSON keys %v first, the report's are %v", m[1], want, got)
+		}
+	}
+}
+
 // sharedSynopsisFlags are the flags a README synopsis may leave out though
 // the help's usage line names them: README's "What every command shares"
 // says which commands take them.
