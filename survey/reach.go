@@ -644,10 +644,11 @@ func (r *Reach) OpenChannel() error {
 }
 
 // SlopeAreaWarnings returns the warnings about what the slope-area method
-// does not use of a reach table: flow lengths (the method takes the
-// distance between sections as the length of each subreach; Dalrymple and
-// Benson 1967), naming the columns given, and structures marked at
-// sections (the method assumes an open channel between them).
+// does not use of a reach table: flow lengths (read by backwater only;
+// the method takes the distance between sections as the length of each
+// subreach; Dalrymple and Benson 1967), naming the columns given, and
+// structures marked at sections (the method assumes an open channel
+// between them).
 //
 // References:
 //
@@ -682,7 +683,7 @@ func (r *Reach) SlopeAreaWarnings() []string {
 		if len(ids) > 1 {
 			which = "sections "
 		}
-		out = append(out, fmt.Sprintf("%s: the flow lengths in %s (%s%s) are not used: the slope-area method takes the distance "+
+		out = append(out, fmt.Sprintf("%s: the flow lengths in %s (%s%s) are read by backwater only, not here: the slope-area method takes the distance "+
 			"between sections as the length of each subreach (Dalrymple and Benson 1967)",
 			(&ParseError{File: r.File, Sheet: r.Sheet}).Position(), strings.Join(cols, ", "), which, strings.Join(ids, ", ")))
 	}

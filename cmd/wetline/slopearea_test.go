@@ -245,8 +245,8 @@ func TestSlopeAreaPlots(t *testing.T) {
 
 // Flow lengths in the reach table are not used by the slope-area method,
 // which takes the distance between sections (Dalrymple and Benson 1967,
-// TWRI 3-A2): the report warns, naming the columns, instead of ignoring
-// them silently.
+// TWRI 3-A2): the report warns, naming the columns and that backwater
+// reads them, instead of ignoring them silently.
 func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -258,7 +258,7 @@ func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if want := "the flow lengths in left_length, channel_length, right_length (section A) are not used: " +
+	if want := "the flow lengths in left_length, channel_length, right_length (section A) are read by backwater only, not here: " +
 		"the slope-area method takes the distance between sections"; !strings.Contains(out, want) {
 		t.Errorf("report lacks %q:\n%s", want, out)
 	}
