@@ -539,3 +539,37 @@ func TestSlopeAreaNErrors(t *testing.T) {
 		t.Errorf("--n-errors shared: exit %d, %s", code, errs)
 	}
 }
+
+// With --no-extend a water surface above an end of a section is an error
+// placed on the value compared: the one mark used (the side asked for, or
+// the only mark), or, for the mean of two, both marks as written and
+// their mean, not the left cell alone beside a stage that is not in it.
+func TestSlopeAreaNoExtendNamesMarks(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, left, right string
+		args              []string
+		want              string
+	}{
+		{"mean", "12.5", "12.3", nil, `reach.csv:2:4: ws_left "12.5" and ws_right "12.3", the water surface their mean 12.4: stage 12.4 `},
+		{"left", "12.5", "12.3", []string{"--side", "left"}, `reach.csv:2:4: ws_left "12.5": stage 12.5 `},
+		{"right", "12.5", "12.3", []string{"--side", "right"}, `reach.csv:2:5: ws_right "12.3": stage 12.3 `},
+		{"right only", "", "12.3", nil, `reach.csv:2:5: ws_right "12.3": stage 12.3 `},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			dir := t.TempDir()
+			os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\n"+
+				"A,a.csv,0,"+tc.left+","+tc.right+"\nB,b.csv,100,11.6,11.6\n"), 0o644)
+			os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+			os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+			_, errs, code := runCLI(t, append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "--no-extend", "--draws", "0"}, tc.args...)...)
+			if code == 0 {
+				t.Fatalf("exit 0, want an error")
+			}
+			if got := strings.ReplaceAll(errs, filepath.Join(dir, "reach.csv"), "reach.csv"); !strings.Contains(got, tc.want) {
+				t.Errorf("error %q, want %q", got, tc.want)
+			}
+		})
+	}
+}

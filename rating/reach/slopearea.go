@@ -337,8 +337,10 @@ type SectionError struct {
 	// Index is the 0-based index of the section; ID its name.
 	Index int
 	ID    string
-	// Field names the input at fault: "distance", "water_surface" or
-	// "geometry".
+	// Field names the input at fault: "distance", "geometry",
+	// "flow_lengths", or for a water surface "ws_left" or "ws_right" when
+	// it is that one mark and "water_surface" when it is the mean of both
+	// marks or there is no mark (saMarkField).
 	Field string
 	Err   error
 }
@@ -382,6 +384,23 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		return r, 1, warn
 	}
 	return math.NaN(), 0, ""
+}
+
+// saMarkField names the input a section's water surface was taken from,
+// for a SectionError: "ws_left" or "ws_right" when it rests on one mark
+// (used is 1: the side chosen, or the only mark), "water_surface" when it
+// is the mean of both.
+func saMarkField(s Section, side Side, used int) string {
+	if used != 1 {
+		return "water_surface"
+	}
+	switch hasL, hasR := finite(s.Left), finite(s.Right); {
+	case hasL && (!hasR || side == LeftSide):
+		return "ws_left"
+	case hasR:
+		return "ws_right"
+	}
+	return "water_surface"
 }
 
 // saSectionState is the hydraulic state of a section at a water surface.
@@ -718,7 +737,7 @@ func saPrepare(secs []Section, opt SlopeAreaOptions, res *SlopeArea) (ws []float
 				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
 					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
 			}
-			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", err}
+			return nil, nil, nil, &SectionError{i, s.ID, saMarkField(s, opt.Side, n), err}
 		}
 		for _, w := range rating.ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
 			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)

@@ -397,7 +397,13 @@ func TestSlopeAreaErrors(t *testing.T) {
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrDistances, "distance"},
 		{"dry section", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
-			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "water_surface"},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "ws_left"},
+		{"dry section, its right mark", []Section{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: nan, Right: 100.8}}, ErrDrySection, "ws_right"},
+		{"dry section, the mean of its marks", []Section{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: 100.9}}, ErrDrySection, "water_surface"},
 		{"no mark", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: nan, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrNoMark, "water_surface"},
