@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -644,10 +645,11 @@ func (r *Reach) OpenChannel() error {
 }
 
 // SlopeAreaWarnings returns the warnings about what the slope-area method
-// does not use of a reach table: flow lengths (the method takes the
-// distance between sections as the length of each subreach; Dalrymple and
-// Benson 1967), naming the columns given, and structures marked at
-// sections (the method assumes an open channel between them).
+// does not use of a reach table: flow lengths (read by backwater only;
+// the method takes the distance between sections as the length of each
+// subreach; Dalrymple and Benson 1967), naming the columns given, and
+// structures marked at sections (the method assumes an open channel
+// between them).
 //
 // References:
 //
@@ -682,7 +684,7 @@ func (r *Reach) SlopeAreaWarnings() []string {
 		if len(ids) > 1 {
 			which = "sections "
 		}
-		out = append(out, fmt.Sprintf("%s: the flow lengths in %s (%s%s) are not used: the slope-area method takes the distance "+
+		out = append(out, fmt.Sprintf("%s: the flow lengths in %s (%s%s) are read by backwater only, not here: the slope-area method takes the distance "+
 			"between sections as the length of each subreach (Dalrymple and Benson 1967)",
 			(&ParseError{File: r.File, Sheet: r.Sheet}).Position(), strings.Join(cols, ", "), which, strings.Join(ids, ", ")))
 	}
@@ -846,7 +848,14 @@ func (r *Reach) PlaceError(err error) error {
 		col := ReachColDistance
 		switch se.Field {
 		case "water_surface":
+			if row := r.Rows[se.Index]; finite(row.WSLeft) && finite(row.WSRight) {
+				return r.meanMarksError(se.Index, se.Err)
+			}
 			col = ReachColWSLeft
+		case "ws_left":
+			col = ReachColWSLeft
+		case "ws_right":
+			col = ReachColWSRight
 		case "geometry":
 			col = ReachColSurvey
 		case "flow_lengths":
@@ -855,6 +864,20 @@ func (r *Reach) PlaceError(err error) error {
 		return r.At(se.Index, col, se.Err)
 	}
 	return fmt.Errorf("%s: %w", (&ParseError{File: r.File, Sheet: r.Sheet}).Position(), err)
+}
+
+// meanMarksError places an error about a water surface that is the mean
+// of section i's two marks: at its ws_left cell, naming both marks as
+// written and the mean compared, so that the cell quoted is not taken for
+// the value at fault.
+func (r *Reach) meanMarksError(i int, err error) error {
+	pe := r.At(i, ReachColWSLeft, nil)
+	right := r.At(i, ReachColWSRight, nil)
+	row := r.Rows[i]
+	pe.Err = fmt.Errorf("%s %q and %s %q, the water surface their mean %s: %w", echo(pe.Name), echo(pe.Text),
+		echo(right.Name), echo(right.Text), strconv.FormatFloat(rating.DecimalMean(row.WSLeft, row.WSRight), 'f', -1, 64), err)
+	pe.Name, pe.Text = "", ""
+	return pe
 }
 
 // within reports whether path lies in folder dir or below it, after

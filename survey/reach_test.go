@@ -622,9 +622,9 @@ func FuzzBoundaryRatingFromTable(f *testing.F) {
 
 // The slope-area method takes the distance between sections as each
 // subreach's length (Dalrymple and Benson 1967, TWRI 3-A2): flow lengths
-// in a reach table are not used, and one warning says so, naming the
-// columns given and the sections (the last section's are warned by
-// ReachTable as unused for every method). A table without them, or with
+// in a reach table are not used (backwater reads them), and one warning
+// says so, naming the columns given and the sections (the last section's
+// are warned by ReachTable as unused for every method). A table without them, or with
 // them blank, gives no such warning; a structure is warned as before.
 func TestReachSlopeAreaWarnings(t *testing.T) {
 	for _, tc := range []struct {
@@ -635,7 +635,7 @@ func TestReachSlopeAreaWarnings(t *testing.T) {
 		{"blank", "section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\nA,a.csv,0,10.9,10.8,,,\nB,a.csv,100,10.7,10.6,,,\n", nil},
 		{"channel and right", "section,survey,distance,ws_left,ws_right,left_length,channel_length,right_length\n" +
 			"A,a.csv,0,10.9,10.8,,110,\nB,a.csv,100,10.7,10.6,,,95\nC,a.csv,200,10.5,10.4,,,\n",
-			[]string{"reach.csv: the flow lengths in channel_length, right_length (sections A, B) are not used: " +
+			[]string{"reach.csv: the flow lengths in channel_length, right_length (sections A, B) are read by backwater only, not here: " +
 				"the slope-area method takes the distance between sections as the length of each subreach (Dalrymple and Benson 1967)"}},
 		{"structure", "section,survey,distance,ws_left,ws_right,structure\nA,a.csv,0,10.9,10.8,weir\nB,a.csv,100,10.7,10.6,\n",
 			[]string{"section A is marked as at a structure (weir): the slope-area method assumes an open channel between the sections"}},

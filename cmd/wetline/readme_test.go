@@ -601,3 +601,58 @@ func TestReadmeSharedFlags(t *testing.T) {
 		}
 	}
 }
+
+// readmeSection returns the README's section of a command: from its
+// heading "### wetline NAME" to the next heading.
+func readmeSection(text, name string) string {
+	loc := regexp.MustCompile(`(?m)^### .*\bwetline ` + regexp.QuoteMeta(name) + `\b.*$`).FindStringIndex(text)
+	if loc == nil {
+		return ""
+	}
+	rest := text[loc[1]:]
+	if i := strings.Index(rest, "\n#"); i >= 0 {
+		rest = rest[:i]
+	}
+	return rest
+}
+
+// TestReadmeNamesEveryFlag checks every flag of every command, as its help
+// lists them, is in the README: in the command's section (its synopsis or
+// its text), or, for a flag many commands share, in "What every command
+// shares". TestReadmeSynopsesMatchHelp holds a synopsis to the help's
+// usage line only, so a flag the usage line leaves out (as the help lists
+// flags the usage line does not) was missed by both.
+func TestReadmeNamesEveryFlag(t *testing.T) {
+	t.Parallel()
+	text := readme(t)
+	_, shared, _ := strings.Cut(text, "What every command shares:")
+	shared, _, _ = strings.Cut(shared, "\n###")
+	named := func(s, flag string) bool {
+		for _, m := range readmeFlag.FindAllStringSubmatch(s, -1) {
+			if m[1] == flag {
+				return true
+			}
+		}
+		return false
+	}
+	for name, f := range readmeCommandFlags(t) {
+		sec := readmeSection(text, name)
+		if sec == "" {
+			t.Errorf("README has no section for %s", name)
+			continue
+		}
+		short := map[string]*regexp.Regexp{} // flag → its shorthand as written, "-o"
+		for s, flag := range f.short {
+			short[flag] = regexp.MustCompile("(?:^|[\\s`(\\[|])-" + s + "\\b")
+		}
+		for flag := range f.long {
+			if flag == "help" || named(sec, flag) || named(shared, flag) {
+				continue
+			}
+			if re := short[flag]; re != nil && (re.MatchString(sec) || re.MatchString(shared)) {
+				continue
+			}
+			t.Errorf("README: the section of %s does not name --%s, which its help lists", name, flag)
+		}
+	}
+}

@@ -245,8 +245,8 @@ func TestSlopeAreaPlots(t *testing.T) {
 
 // Flow lengths in the reach table are not used by the slope-area method,
 // which takes the distance between sections (Dalrymple and Benson 1967,
-// TWRI 3-A2): the report warns, naming the columns, instead of ignoring
-// them silently.
+// TWRI 3-A2): the report warns, naming the columns and that backwater
+// reads them, instead of ignoring them silently.
 func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -258,7 +258,7 @@ func TestSlopeAreaWarnsFlowLengths(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if want := "the flow lengths in left_length, channel_length, right_length (section A) are not used: " +
+	if want := "the flow lengths in left_length, channel_length, right_length (section A) are read by backwater only, not here: " +
 		"the slope-area method takes the distance between sections"; !strings.Contains(out, want) {
 		t.Errorf("report lacks %q:\n%s", want, out)
 	}
@@ -537,5 +537,39 @@ func TestSlopeAreaNErrors(t *testing.T) {
 	}
 	if _, errs, code := runCLI(t, "slopearea", "demodata/reach-brindle.csv", "--n-errors", "shared"); code != 2 || !strings.Contains(errs, "--n-errors") {
 		t.Errorf("--n-errors shared: exit %d, %s", code, errs)
+	}
+}
+
+// With --no-extend a water surface above an end of a section is an error
+// placed on the value compared: the one mark used (the side asked for, or
+// the only mark), or, for the mean of two, both marks as written and
+// their mean, not the left cell alone beside a stage that is not in it.
+func TestSlopeAreaNoExtendNamesMarks(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, left, right string
+		args              []string
+		want              string
+	}{
+		{"mean", "12.5", "12.3", nil, `reach.csv:2:4: ws_left "12.5" and ws_right "12.3", the water surface their mean 12.4: stage 12.4 `},
+		{"left", "12.5", "12.3", []string{"--side", "left"}, `reach.csv:2:4: ws_left "12.5": stage 12.5 `},
+		{"right", "12.5", "12.3", []string{"--side", "right"}, `reach.csv:2:5: ws_right "12.3": stage 12.3 `},
+		{"right only", "", "12.3", nil, `reach.csv:2:5: ws_right "12.3": stage 12.3 `},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			dir := t.TempDir()
+			os.WriteFile(filepath.Join(dir, "reach.csv"), []byte("section,survey,distance,ws_left,ws_right\n"+
+				"A,a.csv,0,"+tc.left+","+tc.right+"\nB,b.csv,100,11.6,11.6\n"), 0o644)
+			os.WriteFile(filepath.Join(dir, "a.csv"), []byte("station,elevation,n\n0,12.2,0.04\n10,10.2,0.04\n20,12.2,\n"), 0o644)
+			os.WriteFile(filepath.Join(dir, "b.csv"), []byte("station,elevation,n\n0,12,0.04\n10,10,0.04\n20,12,\n"), 0o644)
+			_, errs, code := runCLI(t, append([]string{"slopearea", filepath.Join(dir, "reach.csv"), "--no-extend", "--draws", "0"}, tc.args...)...)
+			if code == 0 {
+				t.Fatalf("exit 0, want an error")
+			}
+			if got := strings.ReplaceAll(errs, filepath.Join(dir, "reach.csv"), "reach.csv"); !strings.Contains(got, tc.want) {
+				t.Errorf("error %q, want %q", got, tc.want)
+			}
+		})
 	}
 }

@@ -209,6 +209,11 @@ type BackwaterRating struct {
 	Index   int
 	// Tolerance is the spread above which a read is unsettled (length unit).
 	Tolerance float64
+	// AtBoundary reports a rating section that is the last, where the
+	// boundary sets the stage: the reads are the boundary's, and none is
+	// Unsettled, since the check starts differ from the boundary there by
+	// construction (their Spread is that difference).
+	AtBoundary bool
 	// Rows holds one read per discharge, in the order given.
 	Rows []RatingRead
 	// Geometry, GeometryOptions and Units are the section's, for Table.
@@ -223,7 +228,7 @@ type RatingRead struct {
 	// difference from the second profile there (length unit).
 	Discharge, Stage, Spread float64
 	// Critical: the stage is critical depth. Unsettled: Spread exceeds
-	// the tolerance.
+	// the tolerance at a section upstream of the boundary.
 	Critical, Unsettled bool
 }
 
@@ -264,7 +269,10 @@ type RatingRead struct {
 // difference of the two check profiles from the first at each section is
 // its Spread, and a rating read where it exceeds the tolerance is
 // Unsettled and warned: the reach is too short there for the boundary to
-// be forgotten. The half-way start guards against a chance agreement: over
+// be forgotten. At the last section, where the profiles start, the rating
+// is the boundary itself: its reads are never Unsettled (the starts differ
+// there by construction), and a warning says the rating is the
+// boundary's (BackwaterRating.AtBoundary). The half-way start guards against a chance agreement: over
 // a short reach a profile started from critical depth, with its large
 // velocity head and friction loss, can overshoot the first and cross it,
 // so that at some discharge the two meet at the rating section although
@@ -333,22 +341,35 @@ func ComputeBackwater(secs []Section, qs []float64, b Boundary, opt BackwaterOpt
 }
 
 // boundaryRatingWarning returns a warning when the rating section at is
-// the last section, where the boundary sets the stage: a known stage
-// there is that stage at every discharge (a flat rating, but for critical
-// depth where the stage is below it), and a
-// stage-discharge boundary is returned as given; "" otherwise.
+// the last, where the boundary sets the stage, and "" otherwise: the
+// rating there is the boundary itself, not computed through the reach. A
+// known stage is that stage at every discharge (a flat rating, but for
+// critical depth where the stage is below it), a stage-discharge boundary
+// is returned as given, normal depth is the section's uniform-flow rating
+// at the slope given and critical depth its critical stages. The spreads
+// there are the check starts' differences from the boundary, by
+// construction, and flag no read unsettled; the warning says so.
 func boundaryRatingWarning(secs []Section, at int, b Boundary, u rating.Units) string {
 	if at != len(secs)-1 {
 		return ""
 	}
 	id := secs[at].ID
+	const spreads = "; its spreads are the differences of the check starts from the boundary, not a test of the reach, " +
+		"and flag no stage unsettled"
 	switch b.Kind {
 	case KnownStage:
 		return fmt.Sprintf("the rating is at section %s, the last, where the boundary fixes the stage: it is %s for every discharge "+
-			"(critical depth where that is higher), not a rating; rate a section upstream", id, b.Words(u))
+			"(critical depth where that is higher), not a rating; rate a section upstream%s", id, b.Words(u), spreads)
 	case StageRating:
 		return fmt.Sprintf("the rating is at section %s, the last, where the boundary sets the stage: it is the boundary's "+
-			"stage-discharge rating given back, not computed; rate a section upstream", id)
+			"stage-discharge rating given back, not computed; rate a section upstream%s", id, spreads)
+	case NormalDepth:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary sets the stage: it is %s "+
+			"(the section's uniform-flow rating at that slope, critical depth where that is higher), not computed through the reach; "+
+			"rate a section upstream%s", id, b.Words(u), spreads)
+	case CriticalDepth:
+		return fmt.Sprintf("the rating is at section %s, the last, where the boundary sets the stage: it is the section's critical depth "+
+			"at every discharge, not computed through the reach; rate a section upstream%s", id, spreads)
 	}
 	return ""
 }

@@ -965,9 +965,11 @@ func TestBackwaterOverbankLengthWarning(t *testing.T) {
 
 // A rating at the last section, where the boundary sets the stage, is the
 // boundary itself: with a known stage every discharge reads that stage (a
-// flat rating) and the result warns, naming the section and the stage; a
-// rating upstream, or one at the last section under normal depth, does
-// not warn.
+// flat rating) and the result warns, naming the section and the stage;
+// under normal or critical depth it warns too, naming the boundary. The
+// check starts differ from the boundary there by construction, so no read
+// there is unsettled and the reach is not called too short; a rating
+// upstream does not warn of the boundary.
 func TestBackwaterRatingAtBoundary(t *testing.T) {
 	const h = 101.2
 	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=4", subdivide.Uniform(0.035), 3, 200, 0.001)
@@ -983,7 +985,11 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 			"the rating is at section " + last + ", the last, where the boundary fixes the stage: it is stage 101.200 m for every discharge"},
 		{"stage upstream", secs[1].ID, Boundary{Kind: KnownStage, Stage: h}, ""},
 		{"stage, default section", "", Boundary{Kind: KnownStage, Stage: h}, ""},
-		{"normal at the last", last, Boundary{Kind: NormalDepth, Slope: 0.001}, ""},
+		{"normal at the last", last, Boundary{Kind: NormalDepth, Slope: 0.001},
+			"the rating is at section " + last + ", the last, where the boundary sets the stage: it is normal depth at slope 0.001 (the section's uniform-flow rating"},
+		{"critical at the last", last, Boundary{Kind: CriticalDepth},
+			"the rating is at section " + last + ", the last, where the boundary sets the stage: it is the section's critical depth at every discharge"},
+		{"normal upstream", secs[0].ID, Boundary{Kind: NormalDepth, Slope: 0.001}, ""},
 		{"rating at the last", last, Boundary{Kind: StageRating, Rating: table},
 			"the rating is at section " + last + ", the last, where the boundary sets the stage: it is the boundary's stage-discharge rating given back"},
 	} {
@@ -993,6 +999,30 @@ func TestBackwaterRatingAtBoundary(t *testing.T) {
 				t.Fatal(err)
 			}
 			wantOneWarning(t, res.Warnings, func(w string) bool { return strings.HasPrefix(w, "the rating is at section") }, tc.want)
+			if tc.at == last {
+				if i := slices.IndexFunc(res.Warnings, func(w string) bool { return strings.HasPrefix(w, tc.want) }); i < 0 ||
+					!strings.Contains(res.Warnings[i], "flag no stage unsettled") {
+					t.Errorf("no warning says the spreads at the boundary flag nothing: %q", res.Warnings)
+				}
+				apart := false
+				for _, rd := range res.Rating.Rows {
+					apart = apart || rd.Spread > res.Rating.Tolerance
+					if rd.Unsettled {
+						t.Errorf("discharge %g at the boundary section flagged unsettled (spread %g)", rd.Discharge, rd.Spread)
+					}
+				}
+				if !apart && tc.b.Kind != CriticalDepth {
+					t.Errorf("no spread above the tolerance at the boundary: the test does not try the flag")
+				}
+				if !res.Rating.AtBoundary {
+					t.Errorf("AtBoundary false at the last section")
+				}
+				for _, w := range res.Warnings {
+					if strings.Contains(w, "too short") {
+						t.Errorf("warning %q at the boundary section", w)
+					}
+				}
+			}
 			if tc.b.Kind == KnownStage && tc.at == last {
 				flat := 0
 				for i, rd := range res.Rating.Rows {

@@ -792,15 +792,16 @@ func (r *bwRun) guess(k, j int, hd, lo float64) (guess, step float64) {
 }
 
 // rating reads the stage of every profile at section at; a read whose
-// spread exceeds tol is unsettled.
+// spread exceeds tol is unsettled, but at the last section, where the
+// boundary sets the stage and the starts differ by construction.
 func (r *bwRun) rating(ps []SurfaceProfile, at int, tol float64) BackwaterRating {
-	rt := BackwaterRating{Section: r.secs[at].ID, Index: at, Tolerance: tol,
+	rt := BackwaterRating{Section: r.secs[at].ID, Index: at, Tolerance: tol, AtBoundary: at == len(r.secs)-1,
 		Rows: make([]RatingRead, len(ps)), Geometry: r.secs[at].Geometry,
 		GeometryOptions: r.models[at].gopt, Units: r.u}
 	for i, p := range ps {
 		s := p.Sections[at]
 		rt.Rows[i] = RatingRead{Discharge: p.Discharge, Stage: s.WaterSurface, Spread: s.Spread,
-			Critical: s.Critical, Unsettled: s.Spread > tol}
+			Critical: s.Critical, Unsettled: s.Spread > tol && !rt.AtBoundary}
 	}
 	return rt
 }

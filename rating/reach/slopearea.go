@@ -225,6 +225,11 @@ type SectionResult struct {
 	// Area, WettedPerimeter, TopWidth and HydraulicDepth (A/T) describe
 	// the wetted section.
 	Area, WettedPerimeter, TopWidth, HydraulicDepth float64
+	// ChannelDepth is the main channel's mean depth, its area over its
+	// top width between the bank stations; NaN for a section without
+	// banks (all channel). The reach-length checks use it where it is
+	// known (see saCheckDepth).
+	ChannelDepth float64
 	// Conveyance is ΣKi over subsections; Alpha the energy coefficient
 	// Σ(Ki³/Ai²)/(K³/A²).
 	Conveyance, Alpha float64
@@ -332,8 +337,10 @@ type SectionError struct {
 	// Index is the 0-based index of the section; ID its name.
 	Index int
 	ID    string
-	// Field names the input at fault: "distance", "water_surface" or
-	// "geometry".
+	// Field names the input at fault: "distance", "geometry",
+	// "flow_lengths", or for a water surface "ws_left" or "ws_right" when
+	// it is that one mark and "water_surface" when it is the mean of both
+	// marks or there is no mark (saMarkField).
 	Field string
 	Err   error
 }
@@ -377,6 +384,23 @@ func saWaterSurface(s Section, side Side) (ws float64, used int, warn string) {
 		return r, 1, warn
 	}
 	return math.NaN(), 0, ""
+}
+
+// saMarkField names the input a section's water surface was taken from,
+// for a SectionError: "ws_left" or "ws_right" when it rests on one mark
+// (used is 1: the side chosen, or the only mark), "water_surface" when it
+// is the mean of both.
+func saMarkField(s Section, side Side, used int) string {
+	if used != 1 {
+		return "water_surface"
+	}
+	switch hasL, hasR := finite(s.Left), finite(s.Right); {
+	case hasL && (!hasR || side == LeftSide):
+		return "ws_left"
+	case hasR:
+		return "ws_right"
+	}
+	return "water_surface"
 }
 
 // saSectionState is the hydraulic state of a section at a water surface.
@@ -713,7 +737,7 @@ func saPrepare(secs []Section, opt SlopeAreaOptions, res *SlopeArea) (ws []float
 				err = fmt.Errorf("%w: water surface %.3f %s, lowest ground %.3f %s",
 					ErrDrySection, h, u.Length(), s.Geometry.Bottom(), u.Length())
 			}
-			return nil, nil, nil, &SectionError{i, s.ID, "water_surface", err}
+			return nil, nil, nil, &SectionError{i, s.ID, saMarkField(s, opt.Side, n), err}
 		}
 		for _, w := range rating.ExtensionWarnings(sts[i].w.ExtendedLeft, sts[i].w.ExtendedRight, h, u) {
 			res.Warnings = append(res.Warnings, "section "+s.ID+": "+w)
@@ -737,6 +761,7 @@ func saFillSections(res *SlopeArea, secs []Section, ws []float64, used []int, st
 			Area: w.Area, WettedPerimeter: w.WettedPerimeter, TopWidth: w.TopWidth,
 			HydraulicDepth: w.HydraulicDepth, Conveyance: st.k, Alpha: st.alpha,
 			Velocity: q / w.Area, Subs: make([]rating.SubRow, len(w.Subs))}
+		r.ChannelDepth = saChannelDepth(s.Geometry, w)
 		r.VelocityHead = st.c * q * q / (2 * u.Gravity())
 		r.EnergyGrade = r.WaterSurface + r.VelocityHead
 		r.Froude = rating.FroudeNumber(q, w.Area, w.TopWidth, st.alpha, u)
@@ -760,9 +785,11 @@ const (
 	srcPairFall = "Dalrymple & Benson 1967 (TWRI 3-A2), as quoted by Jarrett 1985 (USGS WRI 85-4004, p. 7): " +
 		"fall between each pair of sections at least the larger of 0.5 ft (0.15 m) and the velocity head"
 	srcSections = "Dalrymple & Benson 1967 (TWRI 3-A2): three or more sections recommended (as read in secondary sources)"
-	srcLength   = "length at least 75 mean depths (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
-	// srcSubreachLength takes the share of MinReachDepths per subreach.
-	srcSubreachLength = "each subreach at least its equal share of the reach length, %.4g mean depths of its two sections " +
+	// srcLength takes the depth used (saDepthWords).
+	srcLength = "length at least 75 mean %s (common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
+	// srcSubreachLength takes the share of MinReachDepths per subreach
+	// and the depth used (saDepthWords).
+	srcSubreachLength = "each subreach at least its equal share of the reach length, %.4g mean %s " +
 		"(this project's reading of: length at least 75 mean depths, common practice, attributed to Dalrymple & Benson 1967; confirmed only secondhand)"
 	// srcKRatio takes MaxConveyanceRatio as printed, twice.
 	srcKRatio = "Kd/Ku between 0.7 and 1/0.7 = %s, checked as the larger conveyance over the smaller ≤ %s: " +
@@ -790,7 +817,7 @@ func saCheckList(res *SlopeArea) []Check {
 	var cs []Check
 	meanD := 0.0
 	for _, s := range res.Sections {
-		meanD += s.HydraulicDepth
+		meanD += saCheckDepth(s)
 	}
 	meanD /= float64(len(res.Sections))
 	if res.Method == MethodSlopeArea {
@@ -800,7 +827,7 @@ func saCheckList(res *SlopeArea) []Check {
 		cs = append(cs, saFallChecks(res)...)
 		first, last := res.Sections[0].Distance, res.Sections[n-1].Distance
 		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
-			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: srcLength})
+			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: fmt.Sprintf(srcLength, saDepthWords(res.Sections, "at every section"))})
 		cs = append(cs, saSubreachLengthChecks(res)...)
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
@@ -837,7 +864,8 @@ func saCheckList(res *SlopeArea) []Check {
 // saSubreachLengthChecks checks the length of every subreach of a reach
 // of three or more sections against its equal share of the reach-length
 // criterion at its own depth: L ≥ MinReachDepths/(M − 1) · (du + dd)/2
-// for M sections, du and dd the hydraulic depths of its two sections.
+// for M sections, du and dd the mean depths of its two sections
+// (saCheckDepth).
 // The criterion is for the whole reach (srcLength); sharing it equally
 // among the subreaches is this project's reading, which catches a
 // subreach so short that its fall and losses are round-off and its
@@ -851,11 +879,74 @@ func saSubreachLengthChecks(res *SlopeArea) []Check {
 	cs := make([]Check, 0, len(res.Subreaches))
 	for _, sr := range res.Subreaches {
 		up, dn := res.Sections[sr.FromIndex], res.Sections[sr.ToIndex]
-		limit := share * (up.HydraulicDepth + dn.HydraulicDepth) / 2
+		limit := share * (saCheckDepth(up) + saCheckDepth(dn)) / 2
 		cs = append(cs, Check{Name: "subreach length " + sr.From + " to " + sr.To, Value: sr.Length, Limit: limit, Relation: "≥",
-			Pass: sr.Length >= limit-roundOffSlack(up.Distance, dn.Distance), Source: fmt.Sprintf(srcSubreachLength, share)})
+			Pass:   sr.Length >= limit-roundOffSlack(up.Distance, dn.Distance),
+			Source: fmt.Sprintf(srcSubreachLength, share, saDepthWords([]SectionResult{up, dn}, "at both its sections"))})
 	}
 	return cs
+}
+
+// saChannelDepth returns the main channel's mean depth in a wetted
+// section, the area over the top width of its Channel subsections, or NaN
+// when the geometry has no banks (its subsections are all channel) or its
+// channel holds no water.
+func saChannelDepth(g subdivide.Geometry, w subdivide.Wetted) float64 {
+	if _, _, banks := subdivide.ChannelLimits(g.Subsections()); !banks {
+		return math.NaN()
+	}
+	var a, t float64
+	for _, sw := range w.Subs {
+		if sw.Region == subdivide.Channel {
+			a += sw.Area
+			t += sw.TopWidth
+		}
+	}
+	if !(a > 0 && t > 0) {
+		return math.NaN()
+	}
+	return a / t
+}
+
+// saCheckDepth is the depth of flow the reach-length criterion measures a
+// section by. The criterion asks for a fall that is large against the
+// depth of the flow, and in a section with overbanks the flow is the
+// main channel's: the whole section's A/T, diluted by wide, shallow
+// overbanks, would pass a reach far shorter than 75 depths of the water
+// that carries the discharge. So it is the main channel's mean depth
+// where the section has banks (ChannelDepth), and the whole section's
+// A/T where it has none (this project's reading of the criterion).
+func saCheckDepth(s SectionResult) float64 {
+	if finite(s.ChannelDepth) {
+		return s.ChannelDepth
+	}
+	return s.HydraulicDepth
+}
+
+// saDepthWords says which depth saCheckDepth took at the sections, for
+// the source of a length check: "depths of the main channel (…) " and
+// every, the words for all the sections, when it is the channel's at
+// each, and the sections by name otherwise.
+func saDepthWords(secs []SectionResult, every string) string {
+	var channel, whole []string
+	for _, s := range secs {
+		if finite(s.ChannelDepth) {
+			channel = append(channel, s.ID)
+		} else {
+			whole = append(whole, s.ID)
+		}
+	}
+	const (
+		chWords    = "of the main channel (its area over its top width between the banks)"
+		wholeWords = "of the whole section (its area over its top width)"
+	)
+	switch {
+	case len(whole) == 0:
+		return "depths " + chWords + " " + every
+	case len(channel) == 0:
+		return "depths " + wholeWords + " " + every
+	}
+	return "depths " + chWords + " at " + strings.Join(channel, ", ") + " and " + wholeWords + " at " + strings.Join(whole, ", ")
 }
 
 // saFallChecks checks the fall of every subreach against the larger of

@@ -397,7 +397,13 @@ func TestSlopeAreaErrors(t *testing.T) {
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrDistances, "distance"},
 		{"dry section", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
-			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "water_surface"},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: nan}}, ErrDrySection, "ws_left"},
+		{"dry section, its right mark", []Section{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: nan, Right: 100.8}}, ErrDrySection, "ws_right"},
+		{"dry section, the mean of its marks", []Section{
+			{ID: "A", Geometry: g, Distance: 0, Left: 101, Right: nan},
+			{ID: "B", Geometry: saTrapezoid(t, 10, 1, 101, 3, 0.04), Distance: 100, Left: 100.8, Right: 100.9}}, ErrDrySection, "water_surface"},
 		{"no mark", []Section{
 			{ID: "A", Geometry: g, Distance: 0, Left: nan, Right: nan},
 			{ID: "B", Geometry: low, Distance: 100, Left: 100.8, Right: nan}}, ErrNoMark, "water_surface"},
@@ -857,5 +863,82 @@ func TestSlopeAreaDifferencesAsDecimals(t *testing.T) {
 		if c.Name == "mark spread A" && c.Value != 0.07 {
 			t.Errorf("mark spread A: %.17g, want 0.07", c.Value)
 		}
+	}
+}
+
+// saBanked is a rectangular channel bc wide and deep metres below its
+// banks at bank, with flat overbanks bo wide on each side at the bank
+// elevation and walls top high above them; banks at the channel's edges.
+func saBanked(t testing.TB, bc, deep, bo, bank, top float64, banks bool) subdivide.Geometry {
+	t.Helper()
+	sec := subdivide.Section{
+		Points: saPoints(0, bank+top, 0, bank, bo, bank, bo, bank-deep, bo+bc, bank-deep, bo+bc, bank, 2*bo+bc, bank, 2*bo+bc, bank+top),
+		N:      []float64{0.06, 0.06, 0.035, 0.035, 0.035, 0.06, 0.06},
+	}
+	if banks {
+		sec.HasBanks, sec.LeftBank, sec.RightBank = true, bo, bo+bc
+	}
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// The reach-length criterion measures a reach by the depth of the flow
+// that carries the discharge. In a compound section of a rectangular
+// channel 30 m wide and 4 m deep with overbanks 200 m wide each, water
+// 1 m over the banks, the main channel between the banks is 5 m deep
+// (area over top width, closed form), while the whole section's A/T is
+// (30·5 + 400·1)/430 = 1.279 m. A reach of 200 m passes 75 × 1.279 =
+// 95.9 m but not 75 × 5 = 375 m; the check takes the channel's depth and
+// says so. The same ground without bank stations is all channel, and its
+// whole A/T is used and named. Each subreach is held to its share of the
+// same depth.
+func TestSlopeAreaLengthChannelDepth(t *testing.T) {
+	const bc, deep, bo, ws = 30.0, 4.0, 200.0, 1.0
+	whole := (bc*(deep+ws) + 2*bo*ws) / (bc + 2*bo) // closed form
+	for _, tc := range []struct {
+		name       string
+		banks      []bool // per section
+		depth      float64
+		pass       bool
+		words      string
+		subreachOK bool
+	}{
+		{"banks", []bool{true, true, true}, deep + ws, false, "mean depths of the main channel (its area over its top width between the banks) at every section", false},
+		{"no banks", []bool{false, false, false}, whole, true, "mean depths of the whole section (its area over its top width) at every section", true},
+		{"one without", []bool{true, true, false}, (2*(deep+ws) + whole) / 3, false,
+			"mean depths of the main channel (its area over its top width between the banks) at A, B and of the whole section (its area over its top width) at C", false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			var secs []Section
+			for i, b := range tc.banks {
+				bank := 100 - 0.4*float64(i)
+				secs = append(secs, Section{ID: string(rune('A' + i)), Geometry: saBanked(t, bc, deep, bo, bank, 3, b),
+					Distance: 100 * float64(i), Left: bank + ws, Right: math.NaN()})
+			}
+			res, err := SolveSlopeArea(secs, SlopeAreaOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var c Check
+			for _, x := range res.Checks {
+				if x.Name == "reach length vs mean depth" {
+					c = x
+				}
+			}
+			if saRelErr(c.Limit, MinReachDepths*tc.depth) > saClosedFormTol || c.Pass != tc.pass {
+				t.Errorf("limit %g pass %v, want %g (75 × %g) pass %v", c.Limit, c.Pass, MinReachDepths*tc.depth, tc.depth, tc.pass)
+			}
+			if !strings.Contains(c.Source, tc.words) {
+				t.Errorf("source %q does not say %q", c.Source, tc.words)
+			}
+			for _, x := range res.Checks {
+				if strings.HasPrefix(x.Name, "subreach length") && x.Pass != tc.subreachOK {
+					t.Errorf("%s: pass %v limit %g, want pass %v", x.Name, x.Pass, x.Limit, tc.subreachOK)
+				}
+			}
+		})
 	}
 }
