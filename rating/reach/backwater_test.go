@@ -1215,3 +1215,42 @@ func TestVerifyBackwaterBoundaryMark(t *testing.T) {
 		})
 	}
 }
+
+// A mark at the last section under an assumed boundary (normal or
+// critical depth) checks that assumption, not the reach: a warning says
+// so; under a known stage none does.
+func TestVerifyBackwaterAssumedBoundaryMark(t *testing.T) {
+	secs := prismReach(t, "trapezoid:bottom=6,side=1.5,height=4", subdivide.Uniform(0.035), 3, 100, 0.001)
+	for _, c := range []struct {
+		name string
+		bd   Boundary
+		want bool
+	}{
+		{"normal depth", Boundary{Kind: NormalDepth, Slope: 0.002}, true},
+		{"critical depth", Boundary{Kind: CriticalDepth}, true},
+		{"known stage", Boundary{Kind: KnownStage, Stage: secs[2].Geometry.Bottom() + 2.5}, false},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			res, err := ComputeBackwater(secs, []float64{20}, c.bd, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			s := slices.Clone(secs)
+			ws := res.Profiles[0].Sections[2].WaterSurface
+			s[2].Left, s[2].Right = ws, ws
+			v, err := VerifyBackwater(s, 20, c.bd, BackwaterOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			var got string
+			for _, w := range v.Warnings {
+				if strings.Contains(w, "checks the boundary, not the reach") {
+					got = w
+				}
+			}
+			if c.want != (got != "") || c.want && !strings.Contains(got, "at P2, where the profile starts") {
+				t.Errorf("warning %q, want one: %v", got, c.want)
+			}
+		})
+	}
+}

@@ -149,7 +149,9 @@ type MarkDeparture struct {
 // the tolerance) rather than at the rating section; the last section,
 // where the profile starts, is left out of that warning, since the check
 // starts differ from the boundary there by construction and its stage is
-// the boundary's.
+// the boundary's. When that section is marked and the boundary is an
+// assumed one (normal or critical depth), a warning says its departure
+// checks the boundary, not the reach's n.
 //
 // Errors are ComputeBackwater's, or ErrNoMarks when no section has a mark.
 //
@@ -211,6 +213,10 @@ func VerifyBackwater(secs []Section, q float64, b Boundary, opt BackwaterOptions
 		}
 	}
 	v.MeanDeparture = sum / float64(len(v.Marks))
+	if last := len(secs) - 1; (b.Kind == NormalDepth || b.Kind == CriticalDepth) && len(v.Marks) > 0 && v.Marks[len(v.Marks)-1].Index == last {
+		v.Warnings = append(v.Warnings, fmt.Sprintf("at %s, where the profile starts, the stage is the boundary's (%s), an assumption: its departure checks the boundary, not the reach's n",
+			secs[last].ID, b.Words(opt.Units)))
+	}
 	if len(loose) > 0 {
 		v.Warnings = append(v.Warnings, fmt.Sprintf("the profile of %g %s still depends on the downstream boundary at the marks of %s "+
 			"(difference between the profiles from the boundary and from the check starts): the departures there are uncertain by as much",
