@@ -331,19 +331,30 @@ func (t *ControlTable) bandNote() string {
 			}
 		}
 		n := sayf("and z·|Δφ|·%.3g for Manning's n of the overbanks relative to the channel's (log-normal, cv %g; φ the overbanks' share of the conveyance, Δφ its change from the join)", e.NLogSD, DefaultNCV)
-		if t.hyd.tab != nil {
+		switch {
+		case t.hyd.tab != nil:
 			n = "(no allowance for n off the channel: a table reference has no subsections)"
+		case !t.hyd.hasOverbanks():
+			n = "(no allowance for n off the channel: " + noBanks + ")"
 		}
 		note += "; above the highest gauging, the fitted rating's bands at the join, widened along the conveyance-slope extension in quadrature by t·½·(h − h_j) times " + slope + " " + n
 	}
 	return note
 }
 
-// extensionWarnings warns of rows far above the gaugings and of a jump
-// where the extension meets the fit.
+// noBanks says why a section without bank stations gives the extension's
+// bands no allowance for n off the channel.
+const noBanks = "the section has no bank stations, so it is all channel and has no overbanks; mark the banks (a bank word in the survey's mark column, or --banks) to get one"
+
+// extensionWarnings warns of rows far above the gaugings, of a jump where
+// the extension meets the fit and of bands without an allowance for n off
+// the channel on a section without bank stations.
 func (t *ControlTable) extensionWarnings() []string {
 	var out []string
 	f := t.fit
+	if t.Extension != nil && t.hyd.sec != nil && !t.hyd.hasOverbanks() {
+		out = append(out, "the bands above the highest gauging have no allowance for Manning's n off the channel: "+noBanks)
+	}
 	if t.MaxMultiple > ExtrapolationWarnMultiple {
 		out = append(out, sayf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
 			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))
