@@ -53,9 +53,11 @@ func (r ControlRow) Extrapolated() bool { return r.Basis != WithinGaugings }
 type ControlTableOptions struct {
 	// Step is the stage step (length unit, > 0; default a round step).
 	Step float64
-	// To is the highest stage (gauge height; 0 = default). It may not lie
-	// above the section's lower end; without a section, rows above the
-	// highest gauging carry the fitted rating on.
+	// To is the highest stage (gauge height; 0 = default). With a
+	// hydraulic rating it may not lie above the higher of its top (the
+	// section's lower end, the table's last row) and the highest gauging;
+	// without one, rows above the highest gauging carry the fitted rating
+	// on.
 	To float64
 	// Hydraulic is the section's hydraulic rating: the conveyance-slope
 	// extension of a least-squares fit above the highest gauging, the
@@ -161,8 +163,9 @@ func (l heldLower) at(h, p, t float64) (float64, float64) {
 // as the prior allows). Rows above
 // the gaugings give their discharge as a multiple of the largest gauged
 // one, with a warning past ExtrapolationWarnMultiple. A To more than
-// TableEdge above the section's lower end is ErrBeyondSection (within it,
-// the table stops at the end).
+// TableEdge above the limit, the higher of the section's lower end (a
+// table's last row) and the highest gauging, is ErrBeyondSection, the
+// message naming the limit (within TableEdge, the table stops at it).
 //
 // References:
 //
@@ -190,11 +193,17 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		// subtracted from (104.60 − 101), may lie above it by round-off:
 		// within TableEdge it is the end.
 		limit := math.Inf(1)
+		limitWhat := ""
 		if c.ok() {
 			limit = math.Max(c.top(), f.HighStage)
+			limitWhat = sayf("%s at %s %s", end, gh(c.top()), u.Length())
+			if f.HighStage > c.top() {
+				limitWhat = sayf("the highest gauging at %s %s, the table's limit since it lies above %s (%s %s)",
+					gh(f.HighStage), u.Length(), end, gh(c.top()), u.Length())
+			}
 		}
 		if opt.To > limit+TableEdge {
-			return t, errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
+			return t, errorf("%w: stage %g %s is above %s", ErrBeyondSection, opt.To, u.Length(), limitWhat)
 		}
 		if !(opt.To > lo) {
 			return t, errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
