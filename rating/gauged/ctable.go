@@ -353,7 +353,7 @@ func (t *ControlTable) bandNote() string {
 
 // noBanks says why a section without bank stations gives the extension's
 // bands no allowance for n off the channel.
-const noBanks = "the section has no bank stations, so it is all channel and has no overbanks; mark the banks (a bank word in the survey's mark column, or --banks) to get one"
+const noBanks = "the section has no bank stations, so it is all channel with no overbanks; mark the banks, by a bank word in the survey's mark column or --banks, to get one"
 
 // extensionWarnings warns of rows far above the gaugings, of a jump where
 // the extension meets the fit and of bands without an allowance for n off
