@@ -53,9 +53,11 @@ func (r ControlRow) Extrapolated() bool { return r.Basis != WithinGaugings }
 type ControlTableOptions struct {
 	// Step is the stage step (length unit, > 0; default a round step).
 	Step float64
-	// To is the highest stage (gauge height; 0 = default). It may not lie
-	// above the section's lower end; without a section, rows above the
-	// highest gauging carry the fitted rating on.
+	// To is the highest stage (gauge height; 0 = default). With a
+	// hydraulic rating it may not lie above the higher of its top (the
+	// section's lower end, the table's last row) and the highest gauging;
+	// without one, rows above the highest gauging carry the fitted rating
+	// on.
 	To float64
 	// Hydraulic is the section's hydraulic rating: the conveyance-slope
 	// extension of a least-squares fit above the highest gauging, the
@@ -161,8 +163,9 @@ func (l heldLower) at(h, p, t float64) (float64, float64) {
 // as the prior allows). Rows above
 // the gaugings give their discharge as a multiple of the largest gauged
 // one, with a warning past ExtrapolationWarnMultiple. A To more than
-// TableEdge above the section's lower end is ErrBeyondSection (within it,
-// the table stops at the end).
+// TableEdge above the limit, the higher of the section's lower end (a
+// table's last row) and the highest gauging, is ErrBeyondSection, the
+// message naming the limit (within TableEdge, the table stops at it).
 //
 // References:
 //
@@ -190,11 +193,17 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 		// subtracted from (104.60 − 101), may lie above it by round-off:
 		// within TableEdge it is the end.
 		limit := math.Inf(1)
+		limitWhat := ""
 		if c.ok() {
 			limit = math.Max(c.top(), f.HighStage)
+			limitWhat = sayf("%s at %s %s", end, gh(c.top()), u.Length())
+			if f.HighStage > c.top() {
+				limitWhat = sayf("the highest gauging at %s %s, the table's limit since it lies above %s (%s %s)",
+					gh(f.HighStage), u.Length(), end, gh(c.top()), u.Length())
+			}
 		}
 		if opt.To > limit+TableEdge {
-			return t, errorf("%w: stage %g %s is above %s at %s %s", ErrBeyondSection, opt.To, u.Length(), end, gh(c.top()), u.Length())
+			return t, errorf("%w: stage %g %s is above %s", ErrBeyondSection, opt.To, u.Length(), limitWhat)
 		}
 		if !(opt.To > lo) {
 			return t, errorf("%w: stage %g is not above the gauge height of zero flow %g", rating.ErrStages, opt.To, lo)
@@ -331,19 +340,30 @@ func (t *ControlTable) bandNote() string {
 			}
 		}
 		n := sayf("and z·|Δφ|·%.3g for Manning's n of the overbanks relative to the channel's (log-normal, cv %g; φ the overbanks' share of the conveyance, Δφ its change from the join)", e.NLogSD, DefaultNCV)
-		if t.hyd.tab != nil {
+		switch {
+		case t.hyd.tab != nil:
 			n = "(no allowance for n off the channel: a table reference has no subsections)"
+		case !t.hyd.hasOverbanks():
+			n = "(no allowance for n off the channel: " + noBanks + ")"
 		}
 		note += "; above the highest gauging, the fitted rating's bands at the join, widened along the conveyance-slope extension in quadrature by t·½·(h − h_j) times " + slope + " " + n
 	}
 	return note
 }
 
-// extensionWarnings warns of rows far above the gaugings and of a jump
-// where the extension meets the fit.
+// noBanks says why a section without bank stations gives the extension's
+// bands no allowance for n off the channel.
+const noBanks = "the section has no bank stations, so it is all channel with no overbanks; mark the banks, by a bank word in the survey's mark column or --banks, to get one"
+
+// extensionWarnings warns of rows far above the gaugings, of a jump where
+// the extension meets the fit and of bands without an allowance for n off
+// the channel on a section without bank stations.
 func (t *ControlTable) extensionWarnings() []string {
 	var out []string
 	f := t.fit
+	if t.Extension != nil && t.hyd.sec != nil && !t.hyd.hasOverbanks() {
+		out = append(out, "the bands above the highest gauging have no allowance for Manning's n off the channel: "+noBanks)
+	}
 	if t.MaxMultiple > ExtrapolationWarnMultiple {
 		out = append(out, sayf("the table goes to %.1f times the largest gauged discharge (%.4g %s), past %g times (common practice): rows there rest on the %s",
 			t.MaxMultiple, t.MaxDischarge, f.Units.Discharge(), ExtrapolationWarnMultiple, t.aboveWhat()))

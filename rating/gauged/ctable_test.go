@@ -1,6 +1,7 @@
 package gauged_test
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -264,5 +265,48 @@ func TestControlTableBayesAboveNote(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A To above the table's limit is refused, and the message names the
+// limit actually used: the higher of the hydraulic rating's top (the
+// section's lower end, a table's last row) and the highest gauging.
+// Within TableEdge of the limit the table stops at it.
+func TestControlTableToLimit(t *testing.T) {
+	truth := built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)
+	low := built(t, "trapezoid:bottom=10,side=2,height=2", 0.035, 0.001) // lower end below the top gauging
+	high := built(t, "trapezoid:bottom=10,side=2,height=4", 0.035, 0.001)
+	f, err := gauged.FitControls(gaugeTruth(t, truth, linspace(0.3, 2.5, 12), nil), gauged.ControlOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		name string
+		opt  gauged.ControlTableOptions
+		err  string  // part of the error, "" for none
+		top  float64 // the table's last stage when no error
+	}{
+		{"gauging above the section", gauged.ControlTableOptions{Hydraulic: &low, To: 2.8},
+			"is above the highest gauging at 2.5 m, the table's limit since it lies above the section's lower end (2 m)", 0},
+		{"to the top gauging", gauged.ControlTableOptions{Hydraulic: &low, To: 2.5}, "", 2.5},
+		{"section above the gaugings", gauged.ControlTableOptions{Hydraulic: &high, To: 4.5},
+			"is above the section's lower end at 4 m", 0},
+		{"to the section's end", gauged.ControlTableOptions{Hydraulic: &high, To: 4}, "", 4},
+		{"table below the top gauging", gauged.ControlTableOptions{HydraulicTable: tableOf(t, low, 0.1), To: 3},
+			"is above the highest gauging at 2.5 m, the table's limit since it lies above the hydraulic rating table's last row (2 m)", 0},
+	} {
+		tab, err := f.Table(tc.opt)
+		if tc.err != "" {
+			if !errors.Is(err, gauged.ErrBeyondSection) || !strings.Contains(err.Error(), tc.err) {
+				t.Errorf("%s: error %v, want ErrBeyondSection with %q", tc.name, err, tc.err)
+			}
+			continue
+		}
+		if err != nil {
+			t.Fatalf("%s: %v", tc.name, err)
+		}
+		if last := tab.Rows[len(tab.Rows)-1].Stage; math.Abs(last-tc.top) > 1e-9 {
+			t.Errorf("%s: table ends at %g, want %g", tc.name, last, tc.top)
+		}
 	}
 }

@@ -72,11 +72,19 @@ type ConveyanceSlope struct {
 	// two distinct stages): how far the gaugings bound a trend even when
 	// S is taken as level. The joined bands widen by it (see At).
 	LineTrendSE float64
-	// NLogSD is σ_lnf = √(ln(1 + cv²)) of a factor on the overbanks' n
-	// relative to the channel's, cv DefaultNCV: the joined bands widen
-	// by the change of the overbanks' share of conveyance it moves (see
-	// At). It is 0 for a table reference, which has no subsections.
-	NLogSD float64
+	// LineTrendT is Student's FitBandLevel quantile the slope's allowance
+	// takes with LineTrendSE, on LineTrendDF = n − 2 degrees of freedom
+	// (n the gaugings in Points).
+	LineTrendT  float64
+	LineTrendDF int
+	// NCV is the coefficient of variation of a factor on the overbanks' n
+	// relative to the channel's (DefaultNCV) and NLogSD its σ_lnf =
+	// √(ln(1 + cv²)): the joined bands widen by the change of the
+	// overbanks' share of conveyance it moves (see At). Both are 0, and
+	// there is no such allowance, on a reference without overbank
+	// subsections: a table, or a section without bank stations (all
+	// channel, its overbanks' share always 0).
+	NCV, NLogSD float64
 	// TrendP is the two-sided p-value of the t test of the trend (NaN
 	// when ln S changes by less than slopeFlat over the points: S is then
 	// taken as constant).
@@ -87,9 +95,8 @@ type ConveyanceSlope struct {
 	// joined, the gaugings' own S line is carried up).
 	Join *ConveyanceJoin
 
-	tq    float64   // Student quantile of the bands
-	tLine float64   // Student quantile of LineTrendSE (n − 2 degrees of freedom)
-	ref   reference // the conveyance the extension rests on
+	tq  float64   // Student quantile of the bands
+	ref reference // the conveyance the extension rests on
 }
 
 // ConveyanceJoin is where a conveyance-slope extension meets the fitted
@@ -109,7 +116,8 @@ type ConveyanceJoin struct {
 	// comparison with LogSlope.
 	GaugedLogSlope float64
 	// OverbankShare is φ_ob(h_j), the overbank subsections' share of the
-	// section's conveyance at the join (0 for a table reference).
+	// section's conveyance at the join (0 for a table reference or a
+	// section without bank stations).
 	OverbankShare float64
 }
 
@@ -170,8 +178,8 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 		panic("gauged: FitConveyanceSlope: slices of different lengths")
 	}
 	s := ConveyanceSlope{TrendP: math.NaN(), LineTrendSE: math.NaN(), ref: c}
-	if c.sec != nil {
-		s.NLogSD = logSD(DefaultNCV)
+	if c.hasOverbanks() {
+		s.NCV, s.NLogSD = DefaultNCV, logSD(DefaultNCV)
 	}
 	if n < ConveyanceSlopeMin {
 		return s, errorf("%w: %s in the upper range, at least %d needed", ErrExtension, rating.Counted(n, "gauging", "gaugings"), ConveyanceSlopeMin)
@@ -197,7 +205,8 @@ func fitConveyanceSlope(c reference, stages, discharges, weights []float64) (Con
 	if sxx > 0 {
 		s.LineTrendSE = math.Sqrt(s2 / sxx)
 	}
-	s.tLine = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(0.5 + FitBandLevel/2)
+	s.LineTrendDF = n - 2
+	s.LineTrendT = distuv.StudentsT{Mu: 0, Sigma: 1, Nu: float64(n - 2)}.Quantile(0.5 + FitBandLevel/2)
 	switch {
 	case math.Abs(trend)*span <= slopeFlat:
 		// No change of ln S over the points worth the name: constant.
@@ -313,7 +322,8 @@ func (s ConveyanceSlope) gaugedLogSlopeAt(h float64) float64 {
 // taken as log-normal with coefficient of variation DefaultNCV (as the
 // priors are, after Le Coz et al., 2014), σ_lnf = √(ln(1 + cv²)) (NLogSD)
 // and z the normal quantile of FitBandLevel. A table reference has no
-// subsections and no a_n. A k that is not > 0 gives zero discharge and
+// subsections, and a section without bank stations no overbanks: neither
+// has an a_n. A k that is not > 0 gives zero discharge and
 // NaN bands.
 //
 // References:
@@ -355,7 +365,7 @@ func (s ConveyanceSlope) allowances(h float64) (aS, aN float64) {
 		return 0, 0
 	}
 	if se := s.LineTrendSE; se > 0 {
-		aS = s.tLine * 0.5 * (h - j.Stage) * se
+		aS = s.LineTrendT * 0.5 * (h - j.Stage) * se
 	}
 	if s.NLogSD > 0 {
 		aN = bandZ * math.Abs(s.ref.overbankShare(h)-j.OverbankShare) * s.NLogSD

@@ -7,6 +7,7 @@ import (
 
 	"wetline/rating"
 	"wetline/rating/gauged"
+	"wetline/subdivide"
 )
 
 // floodRect is a compound section of rectangles (invented): a main
@@ -176,5 +177,84 @@ func TestExtensionBandNote(t *testing.T) {
 		if (e.NLogSD > 0) != tc.ncv {
 			t.Errorf("%s: σ_lnf %g", tc.name, e.NLogSD)
 		}
+	}
+}
+
+// noBanksOf returns the hydraulic rating of a built shape's section with
+// its bank stations taken away: the same ground and n, all channel.
+func noBanksOf(t *testing.T, spec string, n, slope float64) rating.HydraulicCurve {
+	t.Helper()
+	s, err := subdivide.ParseShape(spec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec, err := s.Section(subdivide.PerRegion{Channel: n})
+	if err != nil {
+		t.Fatal(err)
+	}
+	sec.HasBanks = false
+	p, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return rating.HydraulicCurve{Geometry: p, Options: rating.Options{Slope: slope}}
+}
+
+// A section without bank stations is all channel: its overbanks' share of
+// conveyance is always 0, so the extension's bands take no allowance for
+// n off the channel, and the band note and a warning say so rather than
+// naming an allowance that is 0. Above the join the half-widths are then
+// √(w_j² + a_S²) alone, a_S = t·½·(h − h_j)·SE(trend) with t Student's
+// 97.5 % quantile on n − 2 degrees of freedom (from the published table,
+// as in TestExtensionBandAllowances).
+func TestExtensionBandNoBanks(t *testing.T) {
+	survey := noBanksOf(t, floodRect, 0.035, 0.001)
+	gs := gaugeTruth(t, built(t, floodRect, 0.030, 0.001), linspace(0.4, 1.9, 12), rand.New(rand.NewPCG(22, 22)))
+	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, To: 4, Step: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := tab.Extension
+	if e == nil || e.Join == nil {
+		t.Fatalf("no joined extension: %q", tab.Warnings)
+	}
+	if e.NLogSD != 0 || e.NCV != 0 || e.Join.OverbankShare != 0 {
+		t.Errorf("σ_lnf %g, n cv %g, φ_ob at the join %g: want 0 without bank stations", e.NLogSD, e.NCV, e.Join.OverbankShare)
+	}
+	const why = "no allowance for n off the channel: the section has no bank stations"
+	if !hasWarning([]string{tab.BandNote}, why) || hasWarning([]string{tab.BandNote}, "Manning's n of the overbanks relative") {
+		t.Errorf("band note %q", tab.BandNote)
+	}
+	if !hasWarning(tab.Warnings, "no allowance for Manning's n off the channel: the section has no bank stations") {
+		t.Errorf("no warning of the missing allowance: %q", tab.Warnings)
+	}
+	tq, ok := map[int]float64{3: 3.1824, 4: 2.7764, 5: 2.5706, 6: 2.4469}[e.LineTrendDF]
+	if !ok || e.LineTrendDF != len(e.Points)-2 || relErr(e.LineTrendT, tq) > 2e-4 {
+		t.Fatalf("t %g on %d degrees of freedom (%d gaugings)", e.LineTrendT, e.LineTrendDF, len(e.Points))
+	}
+	j := tab.Rows[checkJoin(t, tab, f.HighStage, gauged.ConveyanceSlopeAbove)]
+	wp := math.Log(j.ParametricUpper / j.Discharge)
+	for _, h := range []float64{2.5, 3.0, 4.0} {
+		r, err := tab.At(h)
+		if err != nil {
+			t.Fatal(err)
+		}
+		aS := tq * 0.5 * (h - f.HighStage) * e.LineTrendSE
+		if got, want := math.Log(r.ParametricUpper/r.Discharge), math.Sqrt(wp*wp+aS*aS); relErr(got, want) > 2e-4 {
+			t.Errorf("%g m: parametric half-width %.6g, want %.6g", h, got, want)
+		}
+	}
+	// The same ground with its banks marked has the allowance.
+	banked := built(t, floodRect, 0.035, 0.001)
+	tb, err := f.Table(gauged.ControlTableOptions{Hydraulic: &banked, To: 4, Step: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tb.Extension == nil || !(tb.Extension.NLogSD > 0) || hasWarning(tb.Warnings, "no bank stations") {
+		t.Errorf("banked section: extension %v, warnings %q", tb.Extension, tb.Warnings)
 	}
 }

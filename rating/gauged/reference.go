@@ -63,6 +63,13 @@ func (r reference) overbankShare(h float64) float64 {
 	return ob / row.Conveyance
 }
 
+// hasOverbanks reports a section with overbank subsections (a region
+// other than subdivide.Channel), which only bank stations give: a table,
+// or a section without bank stations, is all channel.
+func (r reference) hasOverbanks() bool {
+	return r.sec != nil && hasOverbanks(*r.sec)
+}
+
 // discharge returns the reference's discharge at gauge height h.
 func (r reference) discharge(h float64) (float64, error) {
 	q, _, err := r.at(h)

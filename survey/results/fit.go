@@ -297,6 +297,18 @@ type jsonConveyance struct {
 	JoinDischarge  Float `json:"join_discharge"`
 	JoinConveyance Float `json:"join_conveyance"`
 	JoinLogSlope   Float `json:"join_log_slope"`
+	// The inputs of the bands' allowances above the join (appended keys):
+	// the slope's t·½·(h − join_stage)·line_trend_standard_error, t
+	// Student's quantile on line_trend_degrees_of_freedom, and n's
+	// z·|φ(h) − join_overbank_share|·n_log_sd, n_log_sd = √(ln(1 +
+	// n_cv²)) (both null when the reference has no overbanks: no such
+	// allowance).
+	LineTrendSE       Float `json:"line_trend_standard_error"`
+	LineTrendT        Float `json:"line_trend_t"`
+	LineTrendDF       int   `json:"line_trend_degrees_of_freedom"`
+	NCV               Float `json:"n_cv"`
+	NLogSD            Float `json:"n_log_sd"`
+	JoinOverbankShare Float `json:"join_overbank_share"`
 }
 
 type jsonControl struct {
@@ -515,10 +527,15 @@ func jsonExtrapolationOf(r *gauged.Report, t *gauged.ControlTable) *jsonExtrapol
 	if x := t.Extension; x != nil {
 		nan := Float(math.NaN())
 		e.ConveyanceSlope = &jsonConveyance{len(x.Points), x.Level, Float(x.LogSlope), Float(x.LogSlopeSE), Float(x.Trend), Float(x.TrendSE),
-			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog), nan, nan, nan, nan}
+			Float(x.Centre), Float(x.TrendP), Float(x.ScatterLog), nan, nan, nan, nan,
+			Float(x.LineTrendSE), Float(x.LineTrendT), x.LineTrendDF, nan, nan, nan}
+		c := e.ConveyanceSlope
+		if x.NLogSD > 0 {
+			c.NCV, c.NLogSD = Float(x.NCV), Float(x.NLogSD)
+		}
 		if j := x.Join; j != nil {
-			c := e.ConveyanceSlope
 			c.JoinStage, c.JoinDischarge, c.JoinConveyance, c.JoinLogSlope = Float(j.Stage), Float(j.Discharge), Float(j.Conveyance), Float(j.LogSlope)
+			c.JoinOverbankShare = Float(j.OverbankShare)
 		}
 	}
 	return e
@@ -864,6 +881,15 @@ func writeTableRows(p printer, r *gauged.Report, t *gauged.ControlTable) {
 	p("  bands: %s\n", t.BandNote)
 	if t.AboveNote != "" {
 		p("  %s\n", t.AboveNote)
+	}
+	if x := t.Extension; x != nil && x.Join != nil {
+		n := "no allowance for n off the channel"
+		if x.NLogSD > 0 {
+			n = fmt.Sprintf("n off the channel cv %s (σ_lnf %s), overbanks' share of conveyance at the join %s",
+				sig(x.NCV, 3), sig(x.NLogSD, 4), sig(x.Join.OverbankShare, 4))
+		}
+		p("  allowances above the join (%s %s): slope SE(trend of ln S) %s per %s, t %s on %d degrees of freedom; %s\n",
+			sig(x.Join.Stage, shortest), L, sig(x.LineTrendSE, 4), L, sig(x.LineTrendT, 4), x.LineTrendDF, n)
 	}
 	if t.BandsWithheld {
 		p("  bands withheld: the chains disagree (see the warnings)\n")
