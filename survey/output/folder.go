@@ -61,6 +61,9 @@ func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	if f.closed {
 		return nil, ErrClosed
 	}
+	// "out/" names the folder out: its lock and staged folder go beside
+	// it, in the folder above, never inside it.
+	path = filepath.Clean(path)
 	fail := func(err error) (*Folder, error) { return nil, fmt.Errorf("%s: %w", path, err) }
 	for _, in := range f.inputs {
 		if in != "" && in != "-" && Inside(in, path) {

@@ -155,6 +155,7 @@ func (f *Files) CheckNew(path string) error { return f.rules().destination(path,
 // destination checks path as the destination of a file; fresh requires
 // that nothing is there yet.
 func (r rules) destination(path string, fresh bool) error {
+	path = filepath.Clean(path)
 	fail := func(err error) error { return fmt.Errorf("%s: %w", path, err) }
 	for _, in := range r.inputs {
 		if in != "" && in != "-" && SamePath(path, in) {
@@ -311,6 +312,9 @@ func (f *Files) WriteNew(path string, write func(io.Writer) error) error {
 }
 
 func (f *Files) write(path string, fresh bool, write func(io.Writer) error) error {
+	// A path is taken as it names a file: "out.csv/" or "a/./b" is the
+	// file it cleans to, its temporary file beside that.
+	path = filepath.Clean(path)
 	f.mu.Lock()
 	if f.closed {
 		f.mu.Unlock()
