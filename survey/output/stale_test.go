@@ -41,7 +41,6 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv", "b.csv"),
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.old", ended)), "index.csv"),
 		file(fmt.Sprintf(".ratings.%d-3.tmp", ended)),
-		file(fmt.Sprintf(".ratings.%d-4.bak", ended)),
 	}
 	withFolder := staleFolder(t, p(fmt.Sprintf(".ratings.%d-5.tmpdir", ended)), "a.csv")
 	if err := os.Mkdir(filepath.Join(withFolder, "sub"), 0o755); err != nil {
@@ -65,6 +64,7 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".ratings.1.%d-1.tmpdir", ended))),              // that of ratings.1
 		staleFolder(t, p(fmt.Sprintf(".gone.%d-1.tmpdir.old", ended)), "index.csv"),  // the one copy of gone
 		file(fmt.Sprintf(".ratings.%d-8.tmp.txt", ended)),
+		file(fmt.Sprintf(".ratings.%d-4.bak", ended)), // not the output itself: may be the one copy
 	}
 	old := time.Now().Add(-2 * time.Hour)
 	ents, err := os.ReadDir(dir)
@@ -147,5 +147,42 @@ func TestWriteRemovesKilledRunsTemporaryFile(t *testing.T) {
 	}
 	if l := leftovers(t, dir, "rating.csv"); fmt.Sprint(l) != fmt.Sprint([]string{filepath.Base(fresh)}) {
 		t.Errorf("left beside it: %v, want only the recent %s", l, filepath.Base(fresh))
+	}
+}
+
+// A backup a killed run left beside an output file goes only while it is
+// still the output itself (the hard link made before the commit changed
+// anything): once the output was replaced, or where the backup is a copy
+// or the output is missing, it may be the one copy of the earlier
+// content, and stays.
+func TestCleanStaleBackups(t *testing.T) {
+	dir := t.TempDir()
+	p := func(name string) string { return filepath.Join(dir, name) }
+	out, gone := p("rating.csv"), p("gone.csv")
+	writeString(t, out, "stage,discharge\n1,2\n")
+	linked := p(fmt.Sprintf(".rating.csv.%d-1.bak", ended))
+	if err := os.Link(out, linked); err != nil {
+		t.Skip("no hard links here:", err)
+	}
+	copied := p(fmt.Sprintf(".rating.csv.%d-2.bak", ended))
+	writeString(t, copied, "stage,discharge\n1,2\n")
+	lone := p(fmt.Sprintf(".gone.csv.%d-1.bak", ended))
+	writeString(t, lone, "stage,discharge\n1,2\n")
+	old := time.Now().Add(-2 * ScratchAge)
+	for _, f := range []string{out, linked, copied, lone} {
+		if err := os.Chtimes(f, old, old); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if got := CleanStale(out, ScratchAge, time.Now()); fmt.Sprint(got) != fmt.Sprint([]string{linked}) {
+		t.Errorf("removed %v, want only the link %s", got, linked)
+	}
+	if got := CleanStale(gone, ScratchAge, time.Now()); len(got) > 0 {
+		t.Errorf("with the output missing, removed %v", got)
+	}
+	for _, k := range []string{out, copied, lone} {
+		if _, err := os.Lstat(k); err != nil {
+			t.Errorf("%s removed", k)
+		}
 	}
 }
