@@ -1,10 +1,12 @@
 package output
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
 	"sort"
+	"strings"
 	"testing"
 	"time"
 )
@@ -184,5 +186,60 @@ func TestCleanStaleBackups(t *testing.T) {
 		if _, err := os.Lstat(k); err != nil {
 			t.Errorf("%s removed", k)
 		}
+	}
+}
+
+// A lock written on another host (or in another process-id namespace)
+// names a process id that says nothing here: it holds the folder, and
+// the staged folder beside it stays, until the lock is a day old. Then it
+// is taken over, and only what that run left over a day ago is removed.
+// A lock written here by a process that has ended is taken over at once.
+func TestFolderLockedElsewhere(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	lock := filepath.Join(dir, ".ratings.lock")
+	writeString(t, lock, fmt.Sprintf("%d gauge-server.example pid:[1]\n", ended))
+	staging := staleFolder(t, filepath.Join(dir, fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv")
+	if _, err := New().Folder(out, marker, lines); !errors.Is(err, ErrBusy) || !strings.Contains(err.Error(), "gauge-server.example") {
+		t.Errorf("a live lock of another host: %v, want ErrBusy naming the host", err)
+	}
+	if _, err := os.Stat(staging); err != nil {
+		t.Errorf("the other host's staged folder was removed: %v", err)
+	}
+
+	// A day on, the lock and what that run left a day ago go; what it
+	// left since stays.
+	older := staleFolder(t, filepath.Join(dir, fmt.Sprintf(".ratings.%d-2.tmpdir", ended)), "a.csv")
+	day := time.Now().Add(-ScratchAge - time.Hour)
+	for _, p := range []string{lock, older} {
+		if err := os.Chtimes(p, day, day); err != nil {
+			t.Fatal(err)
+		}
+	}
+	f := New()
+	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+		t.Fatalf("a day-old lock of another host not taken over: %v", err)
+	}
+	if got := readString(t, lock); !strings.HasPrefix(got, fmt.Sprintf("%d %s", os.Getpid(), here())) {
+		t.Errorf("the lock taken over says %q, want this process and where it runs", got)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if l := leftovers(t, dir, "ratings"); fmt.Sprint(l) != fmt.Sprint([]string{filepath.Base(staging)}) {
+		t.Errorf("left beside it: %v, want only the recent %s", l, filepath.Base(staging))
+	}
+
+	// Written here, by a process that has ended: taken over at once.
+	writeString(t, lock, fmt.Sprintf("%d %s\n", ended, here()))
+	g := New()
+	if err := writeFolder(t, g, out, "a.csv", marker); err != nil {
+		t.Fatalf("a lock of an ended process here not taken over: %v", err)
+	}
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+		t.Errorf("left beside it: %v", l)
 	}
 }
