@@ -442,3 +442,79 @@ func TestExitStatusOfInterrupt(t *testing.T) {
 		}
 	}
 }
+
+// A signal after the output was committed (here once the command has
+// returned, its summary said) still ends the run with 128 plus the
+// signal's number, and the one line says the new output is whole and in
+// place, not that none was left: the earlier report, or the earlier batch
+// folder, has been replaced, and nothing is left beside it.
+func TestInterruptAfterCommit(t *testing.T) {
+	t.Parallel()
+	in := batchInputs(t, "a", "b")
+	for _, c := range []struct {
+		sig  syscall.Signal
+		out  string // the output, in the run's folder
+		args []string
+	}{
+		{syscall.SIGINT, "out.txt", []string{"rate", demoSurveyPath}},
+		{syscall.SIGTERM, "out", []string{"rate", in}},
+	} {
+		for rep := range 3 {
+			dir := t.TempDir()
+			out := filepath.Join(dir, c.out)
+			args := append(append([]string(nil), c.args...), "--slope", "0.001", "-o", out)
+			// An earlier output, made by the same command with another slope.
+			earlier := append(append([]string(nil), c.args...), "--slope", "0.002", "-o", out)
+			if _, errs, code := runCLI(t, earlier...); code != 0 {
+				t.Fatalf("earlier output: exit %d: %s", code, errs)
+			}
+			before := readTree(t, out)
+			cmd := exec.Command(os.Args[0], append([]string{"at", "done", strconv.Itoa(int(c.sig))}, args...)...)
+			cmd.Env = append(os.Environ(), helperEnv+"=1")
+			var stderr strings.Builder
+			cmd.Stderr = &stderr
+			err := cmd.Run()
+			what := fmt.Sprintf("%v after the commit (%d)", args, rep)
+			var ee *exec.ExitError
+			if !errors.As(err, &ee) || ee.ExitCode() != 128+int(c.sig) {
+				t.Errorf("%s: %v, want exit status %d; stderr:\n%s", what, err, 128+int(c.sig), stderr.String())
+			}
+			var said []string
+			for _, line := range strings.Split(stderr.String(), "\n") {
+				if strings.HasPrefix(line, "wetline:") {
+					said = append(said, line)
+				}
+			}
+			if len(said) != 1 || said[0] != interruptedAfterNote {
+				t.Errorf("%s: said %q, want the one line %q", what, said, interruptedAfterNote)
+			}
+			if readTree(t, out) == before {
+				t.Errorf("%s: the earlier output was not replaced", what)
+			}
+			want := c.out
+			if c.out == "out" {
+				want += "/"
+			}
+			if got := listing(t, dir); got != want {
+				t.Errorf("%s: left %q in the output's folder, want %q", what, got, want)
+			}
+		}
+	}
+}
+
+// readTree reads a file, or every file of a folder, into one string.
+func readTree(t *testing.T, path string) string {
+	t.Helper()
+	if b, err := os.ReadFile(path); err == nil {
+		return string(b)
+	}
+	var all strings.Builder
+	for _, n := range names(path) {
+		b, err := os.ReadFile(filepath.Join(path, n))
+		if err != nil {
+			t.Fatal(err)
+		}
+		fmt.Fprintf(&all, "%s:\n%s", n, b)
+	}
+	return all.String()
+}

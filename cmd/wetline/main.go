@@ -70,7 +70,8 @@ type env struct {
 	// reached, when set (by a test), is called as the run passes a
 	// point: "section K" when a batch has written its Kth section,
 	// "staged" when a batch's output waits to be committed, "deliver"
-	// before a report is written.
+	// before a report is written, "done" when the command has returned
+	// without an error (its output committed, its summary said).
 	reached func(point string)
 	// stdin is what standard input reads from (nil when unknown): the
 	// file, when it is redirected from one, is protected once a command
@@ -123,7 +124,10 @@ func interruptStatus(sig os.Signal) int {
 // mainWith runs the program with a command table and returns its exit
 // status. An interrupt (SIGINT, SIGTERM or SIGHUP) discards every output
 // file being written and every temporary file, then exits with 128 plus
-// the signal's number and one line, however far the command had got.
+// the signal's number and one line, however far the command had got. The
+// line tells what the run left: before the output was put in place, no
+// output changed; once it was (a commit under way finishes first), the
+// new output is whole and in place.
 //
 // A broken pipe on standard output (the reader went away, as head does)
 // ends the run as a failure: what was being written is discarded, the
@@ -162,8 +166,14 @@ func mainWith(cmds map[string]command) int {
 	return stop.after(err, stdout.broken)
 }
 
-// interruptNote is the one line an interrupted run ends with.
-const interruptNote = "wetline: interrupted; no partial output left"
+// The one line an interrupted run ends with: interrupted before its output
+// was put in place (none changed), after (it is whole and in place), or
+// between two commits (a demo's: what was committed stays, the rest goes).
+const (
+	interruptNote        = "wetline: interrupted; no partial output left"
+	interruptedAfterNote = "wetline: interrupted after the output was written: it is whole and in place"
+	interruptedPartNote  = "wetline: interrupted; the output written before it is whole and in place, the rest discarded (no partial output left)"
+)
 
 // interrupted is the cause of the context of a run ended by a signal.
 type interrupted struct{ sig os.Signal }
@@ -175,7 +185,9 @@ func (i interrupted) Error() string { return "interrupted by " + i.sig.String() 
 // command's own status. Every error a command returns after a signal
 // (the cancelled context, wrapped or not, a worker pool stopped, output
 // refused as discarded) is the interrupt's: the run exits with 128 plus
-// the signal's number and one line saying so, never with the error.
+// the signal's number and one line saying so, never with the error. A
+// signal after the output was committed (while the summary is printed)
+// still ends the run so, and the line says the output is in place.
 type ending struct {
 	// mu is held by whoever ends the run, until the process exits.
 	mu      sync.Mutex
@@ -211,9 +223,18 @@ func (s *ending) finish() int {
 }
 
 func (s *ending) interruptLocked() int {
+	// Discard waits for a commit under way: what Committed then says
+	// is what the run leaves.
 	s.files.Discard()
 	os.RemoveAll(s.scratch)
-	fmt.Fprintln(s.stderr, interruptNote)
+	note := interruptNote
+	switch committed, dropped := s.files.Committed(); {
+	case committed && dropped:
+		note = interruptedPartNote
+	case committed:
+		note = interruptedAfterNote
+	}
+	fmt.Fprintln(s.stderr, note)
 	return interruptStatus(s.caught())
 }
 
@@ -351,13 +372,15 @@ func run(ctx context.Context, e *env, args []string) error {
 		return envError{err}
 	}
 	err := c.run(ctx, e, args[1:])
-	if err != nil {
-		e.files.Discard() // a failed run leaves no output
-		err = e.flags.missingInput(err)
-		var ue usageError
-		if errors.As(err, &ue) && ue.cmd == "" {
-			err = usageError{err: err, cmd: name}
-		}
+	if err == nil {
+		e.pass("done")
+		return nil
+	}
+	e.files.Discard() // a failed run leaves no output
+	err = e.flags.missingInput(err)
+	var ue usageError
+	if errors.As(err, &ue) && ue.cmd == "" {
+		err = usageError{err: err, cmd: name}
 	}
 	return err
 }

@@ -53,14 +53,18 @@ type Folder struct {
 // input; its parent folder must exist (or be one the run may create, see
 // MayCreate). A path that is a symbolic link is refused, as replacing it
 // would replace the link. Once the folder's lock is held (one left by a
-// run that has ended is taken over), the temporary entries ended runs
-// left beside the folder are removed (CleanStale).
+// run that has ended is taken over; one written on another host, a day
+// old), the temporary entries ended runs left beside the folder are
+// removed (CleanStale).
 func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	f.mu.Lock()
 	defer f.mu.Unlock()
 	if f.closed {
 		return nil, ErrClosed
 	}
+	// "out/" names the folder out: its lock and staged folder go beside
+	// it, in the folder above, never inside it.
+	path = filepath.Clean(path)
 	fail := func(err error) (*Folder, error) { return nil, fmt.Errorf("%s: %w", path, err) }
 	for _, in := range f.inputs {
 		if in != "" && in != "-" && Inside(in, path) {
@@ -79,12 +83,14 @@ func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return nil, err
 	}
-	if err := takeLock(d.lock); err != nil {
+	age, err := takeLock(d.lock)
+	if err != nil {
 		return fail(err)
 	}
 	// The lock held, no other run writes this output: what killed runs
-	// left beside it goes now.
-	CleanStale(path, 0, time.Now())
+	// left beside it goes now (a day on, when the lock taken over was
+	// written elsewhere).
+	CleanStale(path, age, time.Now())
 	f.seq++
 	d.tmp = filepath.Join(parent, fmt.Sprintf(".%s.%d-%d.tmpdir", base, os.Getpid(), f.seq))
 	if err := os.Mkdir(d.tmp, 0o755); err != nil {
@@ -162,29 +168,67 @@ func (d *Folder) check() error {
 	return nil
 }
 
-// takeLock creates the lock file holding this process's id; a lock left
-// by a process that has ended is taken over.
-func takeLock(lock string) error {
+// takeLock creates the lock file holding this process's id and where it
+// runs (see here); a lock left by a process that has ended is taken over.
+// A lock written elsewhere (another host sharing the disk, another
+// process-id namespace) names a process id that says nothing here: it is
+// held until it is ScratchAge old. It returns the age from which the
+// temporary entries beside the folder are another run's leftovers: 0,
+// or ScratchAge once a lock written elsewhere was taken over, as that
+// run's own entries cannot be told from a live run's.
+func takeLock(lock string) (time.Duration, error) {
+	me := here()
+	var age time.Duration
 	for range 2 {
 		lf, err := os.OpenFile(lock, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
 		if err == nil {
-			_, err = fmt.Fprintf(lf, "%d\n", os.Getpid())
+			_, err = fmt.Fprintln(lf, strings.TrimSpace(fmt.Sprintf("%d %s", os.Getpid(), me)))
 			if cerr := lf.Close(); err == nil {
 				err = cerr
 			}
-			return err
+			return age, err
 		}
 		if !errors.Is(err, fs.ErrExist) {
-			return err
+			return 0, err
 		}
 		data, _ := os.ReadFile(lock)
-		pid, perr := strconv.Atoi(strings.TrimSpace(string(data)))
-		if perr == nil && alive(pid) {
-			return fmt.Errorf("%w (process %d; its lock is %s)", ErrBusy, pid, lock)
+		pid, where, perr := readLock(data)
+		switch {
+		case perr == nil && where != "" && where != me:
+			st, err := os.Lstat(lock)
+			if err != nil || time.Since(st.ModTime()) < ScratchAge {
+				return 0, fmt.Errorf("%w (process %d on %s; its lock is %s, held until it is a day old)", ErrBusy, pid, where, lock)
+			}
+			age = ScratchAge
+		case perr == nil && alive(pid):
+			return 0, fmt.Errorf("%w (process %d; its lock is %s)", ErrBusy, pid, lock)
 		}
 		os.Remove(lock) // stale: its process has ended
 	}
-	return fmt.Errorf("%w (lock %s)", ErrBusy, lock)
+	return 0, fmt.Errorf("%w (lock %s)", ErrBusy, lock)
+}
+
+// readLock reads a lock file: the process id, and where the process
+// runs ("" in a lock that does not say, taken as this host's).
+func readLock(data []byte) (int, string, error) {
+	pidText, where, _ := strings.Cut(strings.TrimSpace(string(data)), " ")
+	pid, err := strconv.Atoi(pidText)
+	return pid, strings.TrimSpace(where), err
+}
+
+// here names where this process runs, as a lock records it: the host
+// name and, where it can be read, the process-id namespace, so that a
+// process id in a lock is trusted only where it was written. A part that
+// cannot be told is "?", which no lock written elsewhere matches.
+func here() string {
+	host, err := os.Hostname()
+	if err != nil || host == "" || strings.ContainsAny(host, " \t\n") {
+		host = "?"
+	}
+	if ns, err := os.Readlink("/proc/self/ns/pid"); err == nil && !strings.ContainsAny(ns, " \t\n") {
+		return host + " " + ns
+	}
+	return host
 }
 
 // alive reports whether a process with this id runs.

@@ -309,3 +309,51 @@ func rewriteFolder(t *testing.T, out string) *Files {
 	}
 	return f
 }
+
+// An output folder named with a trailing slash (-o out/) is the folder
+// out: its lock and staged folder go beside it, not inside it, and a
+// second run replaces the first's output. A file named with one is the
+// same as without.
+func TestFolderTrailingSlash(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings") + string(filepath.Separator)
+	for run := range 2 {
+		f := New()
+		if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+			t.Fatalf("run %d: %v", run+1, err)
+		}
+		if err := f.Commit(); err != nil {
+			t.Fatalf("run %d: %v", run+1, err)
+		}
+		if got := fmt.Sprint(names(t, filepath.Join(dir, "ratings"))); got != "[a.csv index.csv]" {
+			t.Errorf("run %d: the folder holds %s", run+1, got)
+		}
+		if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+			t.Errorf("run %d: left beside it: %v", run+1, l)
+		}
+	}
+	f := New()
+	if err := f.Write(filepath.Join(dir, "rating.csv")+"/", text("stage\n")); err != nil {
+		t.Fatal(err)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, filepath.Join(dir, "rating.csv")); got != "stage\n" {
+		t.Errorf("rating.csv holds %q", got)
+	}
+}
+
+// names lists a folder.
+func names(t *testing.T, dir string) []string {
+	t.Helper()
+	ents, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []string
+	for _, e := range ents {
+		out = append(out, e.Name())
+	}
+	return out
+}

@@ -80,7 +80,10 @@ type Files struct {
 	folders []*Folder
 	made    []string // folders created for outputs, removed again if empty
 	closed  bool
-	seq     int
+	// committed: a commit put output in place; dropped: a discard
+	// removed output written but not yet committed (see Committed).
+	committed, dropped bool
+	seq                int
 	// rename puts a file or folder in place at Commit: os.Rename, or a
 	// test's that fails.
 	rename func(oldpath, newpath string) error
@@ -155,6 +158,7 @@ func (f *Files) CheckNew(path string) error { return f.rules().destination(path,
 // destination checks path as the destination of a file; fresh requires
 // that nothing is there yet.
 func (r rules) destination(path string, fresh bool) error {
+	path = filepath.Clean(path)
 	fail := func(err error) error { return fmt.Errorf("%s: %w", path, err) }
 	for _, in := range r.inputs {
 		if in != "" && in != "-" && SamePath(path, in) {
@@ -311,6 +315,9 @@ func (f *Files) WriteNew(path string, write func(io.Writer) error) error {
 }
 
 func (f *Files) write(path string, fresh bool, write func(io.Writer) error) error {
+	// A path is taken as it names a file: "out.csv/" or "a/./b" is the
+	// file it cleans to, its temporary file beside that.
+	path = filepath.Clean(path)
 	f.mu.Lock()
 	if f.closed {
 		f.mu.Unlock()
@@ -442,7 +449,8 @@ func (f *Files) drop(e *staged) {
 // backups removed. When a rename fails, every destination already
 // replaced gets its backup back and every new one is removed, and the
 // error (ErrCommit) names the destination that failed. Any failure
-// discards the set. After a commit the set takes new files for a later
+// discards the set. A commit that put anything in place is recorded
+// (Committed). After a commit the set takes new files for a later
 // commit.
 func (f *Files) Commit() error {
 	f.mu.Lock()
@@ -520,7 +528,22 @@ func (f *Files) Commit() error {
 		}
 	}
 	f.staged, f.folders, f.made = nil, nil, nil
+	if len(steps) > 0 {
+		f.committed = true
+	}
 	return nil
+}
+
+// Committed reports whether a commit put output in place (committed),
+// and whether a discard then removed output written but not committed
+// (dropped). An interrupt's Discard waits for a commit under way, so
+// that once it returns, these tell what the run left: nothing changed
+// (neither), its output whole and in place (committed alone), or what
+// was committed in place and the rest removed (both).
+func (f *Files) Committed() (committed, dropped bool) {
+	f.mu.Lock()
+	defer f.mu.Unlock()
+	return f.committed, f.dropped
 }
 
 // step is one destination of a commit: a file or a folder, the new one
@@ -655,6 +678,9 @@ func (f *Files) Discard() {
 
 func (f *Files) discardLocked() {
 	f.closed = true
+	if len(f.staged) > 0 || len(f.folders) > 0 {
+		f.dropped = true
+	}
 	for _, s := range f.staged {
 		if s.tmp != "" {
 			os.Remove(s.tmp)

@@ -9,6 +9,7 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 )
 
 // leftovers lists the files in dir other than those named in keep.
@@ -545,5 +546,65 @@ func TestStreamDestinations(t *testing.T) {
 	}
 	if _, err := os.Lstat(link); err != nil {
 		t.Errorf("the link was removed: %v", err)
+	}
+}
+
+// A Discard that comes while a commit is under way (an interrupt) waits
+// for it, and Committed then tells the truth: the new output is in place,
+// nothing was dropped. Output written after a commit and discarded is
+// told as dropped; a set discarded before any commit as neither.
+func TestCommittedTellsWhatWasLeft(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "rating.csv")
+	writeString(t, out, "old content\n")
+	f := New()
+	if err := f.Write(out, text("stage,discharge\n")); err != nil {
+		t.Fatal(err)
+	}
+	discarded := make(chan struct{})
+	f.rename = func(o, n string) error {
+		go func() { f.Discard(); close(discarded) }()
+		time.Sleep(50 * time.Millisecond) // the Discard waits meanwhile
+		return os.Rename(o, n)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	<-discarded
+	if c, d := f.Committed(); !c || d {
+		t.Errorf("discarded during the commit: committed %v, dropped %v; want true, false", c, d)
+	}
+	if got := readString(t, out); got != "stage,discharge\n" {
+		t.Errorf("the output holds %q, want the new content", got)
+	}
+
+	g := New()
+	if err := g.Write(out, text("a\n")); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.Write(filepath.Join(dir, "later.csv"), text("b\n")); err != nil {
+		t.Fatal(err)
+	}
+	g.Discard()
+	if c, d := g.Committed(); !c || !d {
+		t.Errorf("discarded after a commit and a write: committed %v, dropped %v; want true, true", c, d)
+	}
+
+	h := New()
+	if err := h.Write(out, text("c\n")); err != nil {
+		t.Fatal(err)
+	}
+	h.Discard()
+	if c, _ := h.Committed(); c {
+		t.Error("discarded before any commit: committed")
+	}
+	if got := readString(t, out); got != "a\n" {
+		t.Errorf("the output holds %q, want it as it was", got)
+	}
+	if l := leftovers(t, dir, "rating.csv"); len(l) > 0 {
+		t.Errorf("files left behind: %v", l)
 	}
 }

@@ -20,7 +20,10 @@ var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.ol
 // the output dest: only names of the forms this package makes ("." + the
 // output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir" or ".tmpdir.old"),
 // not links, owned by this user, of a process that no longer runs, and
-// unchanged for at least age before now. A folder (".tmpdir", a staged
+// unchanged for at least age before now. A backup (".bak") is removed
+// only while it is still the file at dest (the hard link a commit makes
+// first), since otherwise it may be the one copy of the earlier content.
+// A folder (".tmpdir", a staged
 // output folder, or ".tmpdir.old", an earlier output moved aside while
 // one was put in place) is removed only when it holds nothing but
 // regular files, as such a folder does, and ".tmpdir.old" only when dest
@@ -53,8 +56,18 @@ func CleanStale(dest string, age time.Duration, now time.Time) []string {
 			continue
 		}
 		switch kind := m[2]; kind {
-		case "tmp", "bak":
+		case "tmp":
 			if !st.Mode().IsRegular() || os.Remove(path) != nil {
+				continue
+			}
+		case "bak":
+			// A backup is a hard link to the output made before the
+			// commit changed anything (Files.backup): while it is still
+			// the output itself, it holds nothing the output does not.
+			// Once the output was replaced, or when it is a copy or the
+			// output is missing, it may be the one copy of the earlier
+			// content, and stays.
+			if !st.Mode().IsRegular() || !sameAsDest(st, dest) || os.Remove(path) != nil {
 				continue
 			}
 		default:
@@ -73,6 +86,13 @@ func CleanStale(dest string, age time.Duration, now time.Time) []string {
 		removed = append(removed, path)
 	}
 	return removed
+}
+
+// sameAsDest reports whether st is the file at dest itself (a hard link
+// to it).
+func sameAsDest(st fs.FileInfo, dest string) bool {
+	d, err := os.Lstat(dest)
+	return err == nil && d.Mode().IsRegular() && os.SameFile(st, d)
 }
 
 // onlyFiles reports whether folder dir holds nothing but regular files

@@ -1,10 +1,12 @@
 package output
 
 import (
+	"errors"
 	"fmt"
 	"os"
 	"path/filepath"
 	"sort"
+	"strings"
 	"testing"
 	"time"
 )
@@ -41,7 +43,6 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv", "b.csv"),
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.old", ended)), "index.csv"),
 		file(fmt.Sprintf(".ratings.%d-3.tmp", ended)),
-		file(fmt.Sprintf(".ratings.%d-4.bak", ended)),
 	}
 	withFolder := staleFolder(t, p(fmt.Sprintf(".ratings.%d-5.tmpdir", ended)), "a.csv")
 	if err := os.Mkdir(filepath.Join(withFolder, "sub"), 0o755); err != nil {
@@ -65,6 +66,7 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".ratings.1.%d-1.tmpdir", ended))),              // that of ratings.1
 		staleFolder(t, p(fmt.Sprintf(".gone.%d-1.tmpdir.old", ended)), "index.csv"),  // the one copy of gone
 		file(fmt.Sprintf(".ratings.%d-8.tmp.txt", ended)),
+		file(fmt.Sprintf(".ratings.%d-4.bak", ended)), // not the output itself: may be the one copy
 	}
 	old := time.Now().Add(-2 * time.Hour)
 	ents, err := os.ReadDir(dir)
@@ -147,5 +149,97 @@ func TestWriteRemovesKilledRunsTemporaryFile(t *testing.T) {
 	}
 	if l := leftovers(t, dir, "rating.csv"); fmt.Sprint(l) != fmt.Sprint([]string{filepath.Base(fresh)}) {
 		t.Errorf("left beside it: %v, want only the recent %s", l, filepath.Base(fresh))
+	}
+}
+
+// A backup a killed run left beside an output file goes only while it is
+// still the output itself (the hard link made before the commit changed
+// anything): once the output was replaced, or where the backup is a copy
+// or the output is missing, it may be the one copy of the earlier
+// content, and stays.
+func TestCleanStaleBackups(t *testing.T) {
+	dir := t.TempDir()
+	p := func(name string) string { return filepath.Join(dir, name) }
+	out, gone := p("rating.csv"), p("gone.csv")
+	writeString(t, out, "stage,discharge\n1,2\n")
+	linked := p(fmt.Sprintf(".rating.csv.%d-1.bak", ended))
+	if err := os.Link(out, linked); err != nil {
+		t.Skip("no hard links here:", err)
+	}
+	copied := p(fmt.Sprintf(".rating.csv.%d-2.bak", ended))
+	writeString(t, copied, "stage,discharge\n1,2\n")
+	lone := p(fmt.Sprintf(".gone.csv.%d-1.bak", ended))
+	writeString(t, lone, "stage,discharge\n1,2\n")
+	old := time.Now().Add(-2 * ScratchAge)
+	for _, f := range []string{out, linked, copied, lone} {
+		if err := os.Chtimes(f, old, old); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if got := CleanStale(out, ScratchAge, time.Now()); fmt.Sprint(got) != fmt.Sprint([]string{linked}) {
+		t.Errorf("removed %v, want only the link %s", got, linked)
+	}
+	if got := CleanStale(gone, ScratchAge, time.Now()); len(got) > 0 {
+		t.Errorf("with the output missing, removed %v", got)
+	}
+	for _, k := range []string{out, copied, lone} {
+		if _, err := os.Lstat(k); err != nil {
+			t.Errorf("%s removed", k)
+		}
+	}
+}
+
+// A lock written on another host (or in another process-id namespace)
+// names a process id that says nothing here: it holds the folder, and
+// the staged folder beside it stays, until the lock is a day old. Then it
+// is taken over, and only what that run left over a day ago is removed.
+// A lock written here by a process that has ended is taken over at once.
+func TestFolderLockedElsewhere(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	lock := filepath.Join(dir, ".ratings.lock")
+	writeString(t, lock, fmt.Sprintf("%d gauge-server.example pid:[1]\n", ended))
+	staging := staleFolder(t, filepath.Join(dir, fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv")
+	if _, err := New().Folder(out, marker, lines); !errors.Is(err, ErrBusy) || !strings.Contains(err.Error(), "gauge-server.example") {
+		t.Errorf("a live lock of another host: %v, want ErrBusy naming the host", err)
+	}
+	if _, err := os.Stat(staging); err != nil {
+		t.Errorf("the other host's staged folder was removed: %v", err)
+	}
+
+	// A day on, the lock and what that run left a day ago go; what it
+	// left since stays.
+	older := staleFolder(t, filepath.Join(dir, fmt.Sprintf(".ratings.%d-2.tmpdir", ended)), "a.csv")
+	day := time.Now().Add(-ScratchAge - time.Hour)
+	for _, p := range []string{lock, older} {
+		if err := os.Chtimes(p, day, day); err != nil {
+			t.Fatal(err)
+		}
+	}
+	f := New()
+	if err := writeFolder(t, f, out, "a.csv", marker); err != nil {
+		t.Fatalf("a day-old lock of another host not taken over: %v", err)
+	}
+	if got := readString(t, lock); !strings.HasPrefix(got, fmt.Sprintf("%d %s", os.Getpid(), here())) {
+		t.Errorf("the lock taken over says %q, want this process and where it runs", got)
+	}
+	if err := f.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if l := leftovers(t, dir, "ratings"); fmt.Sprint(l) != fmt.Sprint([]string{filepath.Base(staging)}) {
+		t.Errorf("left beside it: %v, want only the recent %s", l, filepath.Base(staging))
+	}
+
+	// Written here, by a process that has ended: taken over at once.
+	writeString(t, lock, fmt.Sprintf("%d %s\n", ended, here()))
+	g := New()
+	if err := writeFolder(t, g, out, "a.csv", marker); err != nil {
+		t.Fatalf("a lock of an ended process here not taken over: %v", err)
+	}
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+		t.Errorf("left beside it: %v", l)
 	}
 }
