@@ -566,7 +566,11 @@ func (b *bayesProblem) controlPriors(est []float64) {
 		} else if ref := referenceOf(o.Hydraulic, o.HydraulicTable); ref.ok() {
 			to = math.Max(ref.top(), to)
 		}
-		derived, src, err := b.derivedPrior(j, from, to)
+		guess := math.NaN()
+		if j == 0 && est != nil {
+			guess = est[ib]
+		}
+		derived, src, err := b.derivedPrior(j, from, to, guess)
 		if err != nil {
 			b.warn = append(b.warn, sayf("control %d: %v: weak priors instead", j+1, err))
 		}
@@ -618,8 +622,14 @@ func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
 }
 
 // derivedPrior returns control j's prior of ln A and C over gauge heights
-// from..to: from the survey when its kind has one, else weak.
-func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, string, error) {
+// from..to: from the survey when its kind has one, else weak. guess is
+// the least-squares estimate of the first offset (NaN for none): a
+// hydraulic rating table that does not say where its flow starts (its
+// first row carries discharge) gives the first channel control's A and C
+// at that offset when it lies below the table's lowest row, since both
+// depend on the offset they go with and that row is no gauge height of
+// zero flow; without one the table's offset is fitted (TablePrior).
+func (b *bayesProblem) derivedPrior(j int, from, to, guess float64) (ControlPrior, string, error) {
 	m, o := b.m, b.opt
 	weak := ControlPrior{LogCoefficient: ParamPrior{Mean: 0, SD: WeakLogCoefficientSD}, Exponent: weakExponent(m.kinds[j])}
 	weakSrc := sayf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
@@ -650,12 +660,22 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 			return weak, weakSrc, errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
 		}
 		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
-		if p := b.priors[m.iB()]; j == 0 && finite(p.mean) {
-			ho.OffsetFixed, ho.Offset = true, p.mean
+		atGuess := false
+		if j == 0 {
+			lo, _ := o.HydraulicTable.Range()
+			switch p := b.priors[m.iB()]; {
+			case finite(p.mean):
+				ho.OffsetFixed, ho.Offset = true, p.mean
+			case !tableStartsDry(o.HydraulicTable) && guess < lo:
+				ho.OffsetFixed, ho.Offset, atGuess = true, guess, true
+			}
 		}
 		cp, err := TablePrior(o.HydraulicTable, from, to, ho)
 		if err != nil {
 			return weak, weakSrc, err
+		}
+		if atGuess {
+			cp.Source += ", at the least-squares fit's first offset (the table's first row carries discharge, so it does not say where the flow starts)"
 		}
 		return cp, cp.Source, nil
 	case m.kinds[j] == SectionControl && o.Crest != nil:
