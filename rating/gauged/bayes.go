@@ -258,6 +258,8 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if !b.priors[b.m.iRemnant()].fixed {
 		np-- // the remnant is not a parameter of the rating
 	}
+	f.PriorOnlyParams = b.priorOnlyParams(r)
+	np -= f.PriorOnlyParams
 	f.StandardErrorLog = b.modeScatter(f.Rating, np)
 	f.StandardErrorDF = b.d.n() - np
 	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
@@ -310,6 +312,33 @@ func (b *bayesProblem) givenBreaksHold() error {
 	}
 	return thinControlError(b.d, breaks, thin, b.opt.Units, func(j int) string { return "with " + b.sources[j] },
 		sayf("place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest", MinPerSegment))
+}
+
+// priorOnlyParams counts the free parameters of the controls of rating r
+// (at the posterior mode) that no gauging constrains: those of each
+// control holding no gauging with none above it holding one (ln A, C and
+// its breakpoint). Every gauging is rated by a control below them, whose
+// range they only bound from above, so they rest on their priors alone.
+// An empty control with gaugings above it is counted: joined by
+// continuity, it sets the offset of the control above.
+func (b *bayesProblem) priorOnlyParams(r Rating) int {
+	m := b.m
+	free := make(map[int]bool, len(m.free))
+	for _, i := range m.free {
+		free[i] = true
+	}
+	n := 0
+	for k := len(r.Controls) - 1; k > 0; k-- {
+		if b.d.countIn(r.Controls[k].From, math.Inf(1)) > 0 {
+			break
+		}
+		for _, i := range []int{m.iLnA(k), m.iC(k), m.iBreak(k)} {
+			if free[i] {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 // thinControls warns of each control of rating r (at the posterior mode)
