@@ -297,9 +297,13 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	}
 	r.MoreControls = moreControls(gs, co, f)
 	if m := r.MoreControls; m.Poor {
+		by := ""
+		if f.Method == Bayesian {
+			by = ", a least-squares test"
+		}
 		r.Warnings = append(r.Warnings, sayf(
-			"%s %s these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
-			rating.Counted(m.Controls, "control", "controls"), rating.Agree(m.Controls, "fits", "fit"), m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
+			"%s %s these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g%s); the control likely changes with stage: fit more controls",
+			rating.Counted(m.Controls, "control", "controls"), rating.Agree(m.Controls, "fits", "fit"), m.StandardErrorPercent, m.F, m.P, PoorFitLevel, by))
 	}
 	to := opt.Table
 	to.Hydraulic, to.HydraulicTable = ref.sec, ref.tab

@@ -648,7 +648,10 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		p("  no standard errors: %s\n", f.NoStandardErrors)
 	}
 	p("  %s\n", standardErrorWords(f))
-	if m := r.MoreControls; m.Made {
+	if m := r.MoreControls; m.Made && f.Method == gauged.Bayesian {
+		p("  one more control, a least-squares test (%s against %d, both fitted by weighted least squares, not this Bayesian fit): F = %.2f, p = %s (poor fit below p = %s), least-squares standard error %.2f %% with %d controls\n",
+			rating.Counted(m.Controls, "control", "controls"), m.Controls+1, m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent, m.Controls+1)
+	} else if m.Made {
 		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
 	}
 	if r.Prior != nil {
