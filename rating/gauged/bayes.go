@@ -78,8 +78,11 @@ type BayesOptions struct {
 	// HydraulicTable, used when Hydraulic is nil, is a hydraulic rating
 	// given as a table at gauge heights: the prior of channel controls
 	// (TablePrior) and of the first channel control's offset (the table's
-	// TableBottom). It gives no share of the discharge to a floodplain, so
-	// a control that adds takes weak priors.
+	// TableBottom, when the table says where its flow starts; a table
+	// whose first row carries discharge gives the offset a flat prior and
+	// its A and C at the least-squares fit's first offset). It gives no
+	// share of the discharge to a floodplain, so a control that adds takes
+	// weak priors.
 	HydraulicTable *TableRating
 	// NCV, SlopeCV and CrestCV are the coefficients of variation of n,
 	// slope and crest discharge (defaults DefaultNCV, DefaultSlopeCV,
