@@ -211,6 +211,9 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	if errors.Is(err, gauged.ErrGaugingsOutsideSection) && !opt.DatumGiven {
 		return nil, fmt.Errorf("%s: %w: give --datum, the elevation of the gauge's zero in the survey's datum", path, err)
 	}
+	if errors.Is(err, gauged.ErrTableFlowsAtFoot) {
+		return nil, fmt.Errorf("fit: --zero-flow control: %w; give --hydraulic-zero-flow E, the table's gauge height of zero flow, or --zero-flow auto to fit it", err)
+	}
 	var below *gauged.BelowZeroError
 	if errors.As(err, &below) {
 		return nil, f.belowZeroFlow(below)

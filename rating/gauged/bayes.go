@@ -78,8 +78,11 @@ type BayesOptions struct {
 	// HydraulicTable, used when Hydraulic is nil, is a hydraulic rating
 	// given as a table at gauge heights: the prior of channel controls
 	// (TablePrior) and of the first channel control's offset (the table's
-	// TableBottom). It gives no share of the discharge to a floodplain, so
-	// a control that adds takes weak priors.
+	// TableBottom, when the table says where its flow starts; a table
+	// whose first row carries discharge gives the offset a flat prior and
+	// its A and C at the least-squares fit's first offset). It gives no
+	// share of the discharge to a floodplain, so a control that adds takes
+	// weak priors.
 	HydraulicTable *TableRating
 	// NCV, SlopeCV and CrestCV are the coefficients of variation of n,
 	// slope and crest discharge (defaults DefaultNCV, DefaultSlopeCV,
@@ -258,6 +261,8 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if !b.priors[b.m.iRemnant()].fixed {
 		np-- // the remnant is not a parameter of the rating
 	}
+	f.PriorOnlyParams = b.priorOnlyParams(r)
+	np -= f.PriorOnlyParams
 	f.StandardErrorLog = b.modeScatter(f.Rating, np)
 	f.StandardErrorDF = b.d.n() - np
 	f.StandardErrorPercent = 100 * math.Sinh(f.StandardErrorLog)
@@ -310,6 +315,33 @@ func (b *bayesProblem) givenBreaksHold() error {
 	}
 	return thinControlError(b.d, breaks, thin, b.opt.Units, func(j int) string { return "with " + b.sources[j] },
 		sayf("place the breakpoints within the gauged stages so that each control holds %d, or give the control a prior from a surveyed section or crest", MinPerSegment))
+}
+
+// priorOnlyParams counts the free parameters of the controls of rating r
+// (at the posterior mode) that no gauging constrains: those of each
+// control holding no gauging with none above it holding one (ln A, C and
+// its breakpoint). Every gauging is rated by a control below them, whose
+// range they only bound from above, so they rest on their priors alone.
+// An empty control with gaugings above it is counted: joined by
+// continuity, it sets the offset of the control above.
+func (b *bayesProblem) priorOnlyParams(r Rating) int {
+	m := b.m
+	free := make(map[int]bool, len(m.free))
+	for _, i := range m.free {
+		free[i] = true
+	}
+	n := 0
+	for k := len(r.Controls) - 1; k > 0; k-- {
+		if b.d.countIn(r.Controls[k].From, math.Inf(1)) > 0 {
+			break
+		}
+		for _, i := range []int{m.iLnA(k), m.iC(k), m.iBreak(k)} {
+			if free[i] {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 // thinControls warns of each control of rating r (at the posterior mode)
@@ -566,7 +598,11 @@ func (b *bayesProblem) controlPriors(est []float64) {
 		} else if ref := referenceOf(o.Hydraulic, o.HydraulicTable); ref.ok() {
 			to = math.Max(ref.top(), to)
 		}
-		derived, src, err := b.derivedPrior(j, from, to)
+		guess := math.NaN()
+		if j == 0 && est != nil {
+			guess = est[ib]
+		}
+		derived, src, err := b.derivedPrior(j, from, to, guess)
 		if err != nil {
 			b.warn = append(b.warn, sayf("control %d: %v: weak priors instead", j+1, err))
 		}
@@ -618,8 +654,14 @@ func (b *bayesProblem) surveyBottom(j int) (float64, bool) {
 }
 
 // derivedPrior returns control j's prior of ln A and C over gauge heights
-// from..to: from the survey when its kind has one, else weak.
-func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, string, error) {
+// from..to: from the survey when its kind has one, else weak. guess is
+// the least-squares estimate of the first offset (NaN for none): a
+// hydraulic rating table that does not say where its flow starts (its
+// first row carries discharge) gives the first channel control's A and C
+// at that offset when it lies below the table's lowest row, since both
+// depend on the offset they go with and that row is no gauge height of
+// zero flow; without one the table's offset is fitted (TablePrior).
+func (b *bayesProblem) derivedPrior(j int, from, to, guess float64) (ControlPrior, string, error) {
 	m, o := b.m, b.opt
 	weak := ControlPrior{LogCoefficient: ParamPrior{Mean: 0, SD: WeakLogCoefficientSD}, Exponent: weakExponent(m.kinds[j])}
 	weakSrc := sayf("weak priors (ln A ~ N(0, %g), C ~ N(%.3g, %g))", WeakLogCoefficientSD, weak.Exponent.Mean, weak.Exponent.SD)
@@ -650,12 +692,22 @@ func (b *bayesProblem) derivedPrior(j int, from, to float64) (ControlPrior, stri
 			return weak, weakSrc, errorf("%w: a hydraulic rating table does not split the discharge between channel and floodplain", ErrPrior)
 		}
 		ho := HydraulicPriorOptions{NCV: o.NCV, SlopeCV: o.SlopeCV, Units: o.Units}
-		if p := b.priors[m.iB()]; j == 0 && finite(p.mean) {
-			ho.OffsetFixed, ho.Offset = true, p.mean
+		atGuess := false
+		if j == 0 {
+			lo, _ := o.HydraulicTable.Range()
+			switch p := b.priors[m.iB()]; {
+			case finite(p.mean):
+				ho.OffsetFixed, ho.Offset = true, p.mean
+			case !tableStartsDry(o.HydraulicTable) && guess < lo:
+				ho.OffsetFixed, ho.Offset, atGuess = true, guess, true
+			}
 		}
 		cp, err := TablePrior(o.HydraulicTable, from, to, ho)
 		if err != nil {
 			return weak, weakSrc, err
+		}
+		if atGuess {
+			cp.Source += ", at the least-squares fit's first offset (the table's first row carries discharge, so it does not say where the flow starts)"
 		}
 		return cp, cp.Source, nil
 	case m.kinds[j] == SectionControl && o.Crest != nil:

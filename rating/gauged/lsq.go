@@ -163,8 +163,16 @@ type ControlFit struct {
 	// when n ≤ p); StandardErrorPercent is 100·sinh(s).
 	StandardErrorLog, StandardErrorPercent float64
 	// StandardErrorDF is the degrees of freedom n − p of s (≤ 0 when s is
-	// not defined; p excludes a Bayesian fit's remnant error).
+	// not defined). For a Bayesian fit p excludes the remnant error and
+	// the PriorOnlyParams: the parameters of controls above every
+	// gauging, which no gauging constrains (they rest on their priors, so
+	// they take no degree of freedom from the gaugings).
 	StandardErrorDF int
+	// PriorOnlyParams is the number of free parameters of a Bayesian
+	// fit's controls holding no gauging, with none above them holding
+	// one, at the posterior mode (their ln A, C and breakpoint); 0 for
+	// least squares, where every control holds gaugings.
+	PriorOnlyParams int
 	// N is the number of gaugings fitted, Params the number of parameters
 	// moved by the fit.
 	N, Params int

@@ -183,6 +183,16 @@ func CompareTable(gs []Gauging, t *TableRating) Comparison {
 // and the prior's Source says so; no overlap is an error. Errors wrap
 // ErrPrior.
 //
+// The offset b of the fit is kept at or above the table's zero-flow stage
+// when the table says where its flow starts (a zero-flow stage or a first
+// row without discharge, TableBottom), as a section's is kept at or above
+// its lowest point. A table whose first row already carries discharge (a
+// step-backwater ladder) does not say where the flow starts: that row is
+// not a gauge height of zero flow, so b is fitted freely below it (the
+// power law through the table's own rows) and the offset's prior is
+// centred on that b with a standard deviation of OffsetPriorFraction of
+// the height from b to the top of the range. Unless opt.OffsetFixed.
+//
 // References:
 //
 //	Le Coz, J., Renard, B., Bonnifait, L., Branger, F., Le Boursicaud, R.
@@ -208,12 +218,22 @@ func TablePrior(t *TableRating, from, to float64, opt HydraulicPriorOptions) (Co
 	if from != wantFrom || to != wantTo {
 		what += sayf(" (the part of the control's range %s to %s that it covers)", gh(wantFrom), gh(wantTo))
 	}
-	return curvePrior(q, TableBottom(t), from, to, opt, what)
+	bottom := TableBottom(t)
+	if !tableStartsDry(t) {
+		bottom = math.NaN()
+		if !opt.OffsetFixed {
+			what += sayf(", offset fitted below its lowest row %s (which flows)", gh(lo))
+		}
+	}
+	return curvePrior(q, bottom, from, to, opt, what)
 }
 
 // curvePrior fits the prior of a channel control to the discharge q of a
 // hydraulic rating whose flow starts at bottom, over gauge heights
-// from..to (see HydraulicPrior); what names the rating in the source.
+// from..to (see HydraulicPrior); what names the rating in the source. A
+// NaN bottom (a rating that does not say where its flow starts) leaves
+// the offset of the fit unbounded below the lowest point fitted, and the
+// offset prior's standard deviation is taken from the fitted offset.
 func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt HydraulicPriorOptions, what string) (ControlPrior, error) {
 	ncv, scv := opt.NCV, opt.SlopeCV
 	if ncv == 0 {
@@ -228,6 +248,9 @@ func curvePrior(q func(float64) (float64, error), bottom, from, to float64, opt 
 	lnA, cc, b, err := fitCurve(q, from, to, opt.OffsetFixed, opt.Offset, bottom)
 	if err != nil {
 		return ControlPrior{}, err
+	}
+	if math.IsNaN(bottom) {
+		bottom = b
 	}
 	sdA := math.Sqrt(0.25*math.Pow(logSD(scv), 2) + math.Pow(logSD(ncv), 2))
 	return ControlPrior{

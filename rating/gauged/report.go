@@ -41,8 +41,9 @@ type Options struct {
 	// fits nothing (needs Hydraulic or HydraulicTable).
 	CompareOnly bool
 	// ZeroFlowControl fixes the first control's offset at the section's
-	// lowest point, or the table's zero-flow stage (needs one); it
-	// overrides Controls' offset fields.
+	// lowest point, or the table's zero-flow stage (its zero-flow stage or
+	// dry first row; ErrTableFlowsAtFoot without either); it overrides
+	// Controls' offset fields.
 	ZeroFlowControl bool
 	// Method is how the rating is fitted (default LeastSquares).
 	Method Method
@@ -207,6 +208,13 @@ func (g Gauging) Outside(departurePercent float64) bool {
 // (comparison only, the offset from the survey) and has none.
 var ErrNoHydraulic = errors.New("this needs a section or a hydraulic rating table")
 
+// ErrTableFlowsAtFoot is returned for the offset from the survey's control
+// (Options.ZeroFlowControl) taken from a hydraulic rating table that does
+// not say where its flow starts: no zero-flow stage, and its first row
+// carries discharge (a step-backwater ladder), so that row is no gauge
+// height of zero flow.
+var ErrTableFlowsAtFoot = errors.New("the hydraulic rating table does not say where its flow starts")
+
 // ErrGaugingsOutsideSection is returned when no gauging lies within the
 // section's stage range: the datum relating gauge heights to the survey's
 // elevations is likely missing or wrong.
@@ -228,7 +236,8 @@ var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's
 // Preconditions: CompareOnly and ZeroFlowControl need opt.Hydraulic or
 // opt.HydraulicTable.
 //
-// Errors: ErrNoHydraulic when they have neither, and the errors of the
+// Errors: ErrNoHydraulic when they have neither, ErrTableFlowsAtFoot for
+// ZeroFlowControl on a table whose first row flows, and the errors of the
 // parts (the comparison, the calibration, the fit, the table and the
 // lookup).
 //
@@ -265,6 +274,11 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 		co.Controls = []ControlSpec{{Kind: kind}, {Kind: ChannelControl, Joint: Add}}
 		r.FloodplainAdded = true
 	}
+	if opt.ZeroFlowControl && ref.sec == nil && !tableStartsDry(ref.tab) {
+		lo, _ := ref.tab.Range()
+		return nil, errorf("the offset from the survey's control: %w: %s has no zero-flow stage and its first row, at gauge height %s %s, carries %s %s",
+			ErrTableFlowsAtFoot, ref.tab.Name(), gh(lo), opt.Units.Length(), rating.PlainFigures(ref.tab.q[0], 4), opt.Units.Discharge())
+	}
 	if opt.ZeroFlowControl {
 		co.OffsetFixed, co.Offset = true, ref.bottom()
 		co.OffsetSource = "survey control (the section's lowest point)"
@@ -283,9 +297,13 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	}
 	r.MoreControls = moreControls(gs, co, f)
 	if m := r.MoreControls; m.Poor {
+		by := ""
+		if f.Method == Bayesian {
+			by = ", a least-squares test"
+		}
 		r.Warnings = append(r.Warnings, sayf(
-			"%s %s these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g); the control likely changes with stage: fit more controls",
-			rating.Counted(m.Controls, "control", "controls"), rating.Agree(m.Controls, "fits", "fit"), m.StandardErrorPercent, m.F, m.P, PoorFitLevel))
+			"%s %s these gaugings poorly: one more cuts the standard error to %.1f %% (F = %.1f, p = %.2g < %g%s); the control likely changes with stage: fit more controls",
+			rating.Counted(m.Controls, "control", "controls"), rating.Agree(m.Controls, "fits", "fit"), m.StandardErrorPercent, m.F, m.P, PoorFitLevel, by))
 	}
 	to := opt.Table
 	to.Hydraulic, to.HydraulicTable = ref.sec, ref.tab

@@ -665,7 +665,10 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 		p("  no standard errors: %s\n", f.NoStandardErrors)
 	}
 	p("  %s\n", standardErrorWords(f))
-	if m := r.MoreControls; m.Made {
+	if m := r.MoreControls; m.Made && f.Method == gauged.Bayesian {
+		p("  one more control, a least-squares test (%s against %d, both fitted by weighted least squares, not this Bayesian fit): F = %.2f, p = %s (poor fit below p = %s), least-squares standard error %.2f %% with %d controls\n",
+			rating.Counted(m.Controls, "control", "controls"), m.Controls+1, m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent, m.Controls+1)
+	} else if m.Made {
 		p("  one more control: F = %.2f, p = %s (poor fit below p = %s), standard error %.2f %%\n", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest), m.StandardErrorPercent)
 	}
 	if r.Prior != nil {
@@ -678,15 +681,27 @@ func writeFitControls(p printer, r *gauged.Report, f *gauged.ControlFit) {
 }
 
 // parameterWords counts the parameters a fit moved, saying which are the
-// rating's when a Bayesian fit's remnant error is one of them: the
+// rating's when a Bayesian fit's remnant error is one of them, and how
+// many rest on their priors alone (controls above every gauging): the
 // degrees of freedom of the standard error of estimate are the gaugings
-// less the rating's alone.
+// less the rating's parameters that gaugings constrain.
 func parameterWords(f *gauged.ControlFit) string {
 	all := rating.Counted(f.Params, "parameter", "parameters")
-	if own := f.N - f.StandardErrorDF; f.Method == gauged.Bayesian && own == f.Params-1 {
-		return fmt.Sprintf("%s (%d of the rating and the remnant error)", all, own)
+	if f.Method != gauged.Bayesian {
+		return all
 	}
-	return all
+	var say []string
+	if own := f.N - f.StandardErrorDF + f.PriorOnlyParams; own == f.Params-1 {
+		say = append(say, fmt.Sprintf("%d of the rating and the remnant error", own))
+	}
+	if n := f.PriorOnlyParams; n > 0 {
+		say = append(say, fmt.Sprintf("%d of controls above every gauging %s on %s priors alone and %s no degree of freedom",
+			n, rating.Agree(n, "rests", "rest"), rating.Agree(n, "its", "their"), rating.Agree(n, "takes", "take")))
+	}
+	if len(say) == 0 {
+		return all
+	}
+	return all + " (" + strings.Join(say, "; ") + ")"
 }
 
 // withSE writes a fitted value v with its standard error se ("± se"), or
@@ -752,7 +767,12 @@ func standardErrorWords(f *gauged.ControlFit) string {
 func standardErrorUndefined(f *gauged.ControlFit) string {
 	p := f.N - f.StandardErrorDF
 	aside := ""
-	if p != f.Params {
+	switch rem := p+f.PriorOnlyParams != f.Params; {
+	case rem && f.PriorOnlyParams > 0:
+		aside = fmt.Sprintf(", the remnant error and the %d resting on their priors alone aside", f.PriorOnlyParams)
+	case f.PriorOnlyParams > 0:
+		aside = fmt.Sprintf(", the %d resting on their priors alone aside", f.PriorOnlyParams)
+	case rem:
 		aside = ", the remnant error aside"
 	}
 	return fmt.Sprintf("not defined: %d gaugings for %d parameters of the rating%s (it needs more gaugings than parameters)", f.N, p, aside)

@@ -223,7 +223,11 @@ func fitSummaryItems(add func(string, any, string), num func(string, float64) an
 		add("degrees of freedom of the standard error of estimate", f.StandardErrorDF, "")
 	}
 	if m := r.MoreControls; m.Made {
-		add("one more control", fmt.Sprintf("F = %.2f, p = %s (poor fit below p = %s)", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest)), "")
+		label := "one more control"
+		if f.Method == gauged.Bayesian {
+			label = "one more control (a least-squares test, not of the Bayesian fit)"
+		}
+		add(label, fmt.Sprintf("F = %.2f, p = %s (poor fit below p = %s)", m.F, sig(m.P, 3), sig(gauged.PoorFitLevel, shortest)), "")
 	}
 	for _, t := range []gauged.RelationTest{f.Tests.Sign, f.Tests.Runs, f.Tests.Mean} {
 		add("ISO 1100-2 "+t.Name+" test", fmt.Sprintf("n %d, statistic %s, p = %s, failed %v", t.N, sig(t.Statistic, 4), sig(t.P, 3), t.Failed), "")
