@@ -53,4 +53,3 @@ func TestInputNotesEveryFormat(t *testing.T) {
 		})
 	}
 }
-
