@@ -109,7 +109,7 @@ func DrawRating(in RatingFigures) ([]rating.Figure, []string, error) {
 	}
 	err := set.add("properties", "area, top width, hydraulic radius, conveyance, alpha and velocity against stage", func(w io.Writer) (Result, error) {
 		return Properties(w, PropertiesPlot{Site: in.Site, Section: t.Name, Units: t.Units,
-			Rows: PropertiesFromTable(t), Bankfull: bankfull - datum, HasBankfull: hasBankfull, Size: in.Size})
+			Rows: PropertiesFromTable(t), Bankfull: rating.DecimalDifference(bankfull, datum), HasBankfull: hasBankfull, Size: in.Size})
 	})
 	switch {
 	case errors.Is(err, ErrNoData):
@@ -160,7 +160,7 @@ func tableRatingPlot(in RatingFigures) RatingPlot {
 		rp.Subtitle += fmt.Sprintf("; stages are gauge heights, gauge zero at elevation %g %s", datum, t.Units.Length())
 	}
 	bankfull, hasBankfull := in.Ground.Section.Bankfull()
-	rp.Bankfull, rp.HasBankfull = bankfull-datum, hasBankfull
+	rp.Bankfull, rp.HasBankfull = rating.DecimalDifference(bankfull, datum), hasBankfull
 	return rp
 }
 

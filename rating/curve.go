@@ -51,10 +51,10 @@ func (c HydraulicCurve) Discharge(h float64) (float64, error) {
 }
 
 // Bottom is the gauge height of the section's lowest point.
-func (c HydraulicCurve) Bottom() float64 { return c.Geometry.Bottom() - c.Datum }
+func (c HydraulicCurve) Bottom() float64 { return DecimalDifference(c.Geometry.Bottom(), c.Datum) }
 
 // Top is the gauge height of the lower end of the section.
-func (c HydraulicCurve) Top() float64 { return c.Geometry.Top() - c.Datum }
+func (c HydraulicCurve) Top() float64 { return DecimalDifference(c.Geometry.Top(), c.Datum) }
 
 // Stage returns the gauge height at which the curve carries q > 0, by
 // bisection between the bottom and the top of the section (and above the

@@ -61,6 +61,11 @@ func pow10(p int) int64 {
 	return r
 }
 
+// StepMultiple returns k·step, k a whole number, as the float64 nearest
+// the exact decimal product when step is a short decimal (6 × 0.1 is 0.6,
+// not 0.6000000000000001): a grid stage as a table lays it out.
+func StepMultiple(k, step float64) float64 { return multiple(k, step) }
+
 // multiple returns k·step as the float64 nearest the exact decimal
 // product when step is a short decimal.
 func multiple(k float64, step float64) float64 {

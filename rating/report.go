@@ -178,12 +178,12 @@ func (opt RateOptions) compute(g subdivide.Geometry, stages []float64) (Table, e
 	}
 	elev := make([]float64, len(stages))
 	for i, h := range stages {
-		elev[i] = h + opt.Datum
+		elev[i] = DecimalDifference(h, -opt.Datum) // 0.7 + 100 is 100.7, as typed
 	}
 	t, err := Compute(g, elev, opt.Options)
 	t.GaugeHeights, t.Datum = true, opt.Datum
-	t.Bottom -= opt.Datum
-	t.Top -= opt.Datum
+	t.Bottom = DecimalDifference(t.Bottom, opt.Datum)
+	t.Top = DecimalDifference(t.Top, opt.Datum)
 	for i := range t.Rows {
 		t.Rows[i].Stage = stages[i]
 	}
@@ -376,19 +376,19 @@ func (s StageSpec) StagesWarn(g subdivide.Geometry) ([]float64, []string, error)
 	}
 	if !ranged {
 		if !(g.Top() > g.Bottom()) {
-			return nil, nil, fmt.Errorf("%w (lowest point and lower end at %g)", ErrNoLowPoint, g.Bottom()-s.Datum)
+			return nil, nil, fmt.Errorf("%w (lowest point and lower end at %g)", ErrNoLowPoint, s.gaugeHeight(g.Bottom()))
 		}
-		lo, hi := g.Bottom()-s.Datum, g.Top()-s.Datum
+		lo, hi := s.gaugeHeight(g.Bottom()), s.gaugeHeight(g.Top())
 		step := s.defaultStep(lo, hi)
 		st := s.apart(defaultStages(lo, hi, step))
 		return st, s.raised(lo, hi, len(st)), nil
 	}
 	from, to, step := s.From, s.To, s.Step
 	if !s.FromSet {
-		from = g.Bottom() - s.Datum
+		from = s.gaugeHeight(g.Bottom())
 	}
 	if !s.ToSet {
-		to = g.Top() - s.Datum
+		to = s.gaugeHeight(g.Top())
 	}
 	if step != 0 {
 		st, err := StageRange(from, to, step)
@@ -400,6 +400,17 @@ func (s StageSpec) StagesWarn(g subdivide.Geometry) ([]float64, []string, error)
 	}
 	st = s.apart(st)
 	return st, s.raised(from, to, len(st)), nil
+}
+
+// gaugeHeight is the stage of an elevation: elevation − Datum, as the
+// float64 nearest the exact decimal difference (100.3 − 100 is 0.3, not
+// 0.29999999999999716), so the ends of a default layout are the values a
+// script matching stages looks for.
+func (s StageSpec) gaugeHeight(elevation float64) float64 {
+	if s.Datum == 0 {
+		return elevation
+	}
+	return DecimalDifference(elevation, s.Datum)
 }
 
 // roundStep is the round default step from lo to hi: about MaxDefaultRows

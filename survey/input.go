@@ -10,6 +10,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 	"unicode/utf8"
 )
@@ -201,6 +202,9 @@ func openInput(path string) (io.ReadCloser, int64, error) {
 		return nil, 0, err
 	}
 	if path == Stdin {
+		if data, ok := stdin.buffered(); ok {
+			return io.NopCloser(bytes.NewReader(data)), int64(len(data)), nil
+		}
 		return io.NopCloser(io.LimitReader(os.Stdin, lim.Bytes+1)), -1, nil
 	}
 	f, err := os.OpenFile(path, os.O_RDONLY|syscall.O_NONBLOCK, 0)
@@ -226,11 +230,57 @@ func openInput(path string) (io.ReadCloser, int64, error) {
 	return f, st.Size(), nil
 }
 
-// readInput reads a whole input file (see openInput).
+// stdinBuffer holds standard input once a reader has read it whole, so
+// a command that reads "-" twice (once to tell a survey from a rating,
+// once to read it; a second sheet of a workbook) reads the same bytes.
+// Standard input can be read only once: a second read of the stream
+// itself would find it empty.
+type stdinBuffer struct {
+	mu   sync.Mutex
+	read bool
+	data []byte
+	err  error
+}
+
+// stdin is the process's standard input, read at most once.
+var stdin stdinBuffer
+
+// buffered returns standard input when it has been read whole.
+func (b *stdinBuffer) buffered() ([]byte, bool) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	return b.data, b.read && b.err == nil
+}
+
+// all reads standard input whole the first time (at most limit+1 bytes,
+// so one too long is seen as such) and returns the same bytes, or the
+// same error, every time after.
+func (b *stdinBuffer) all(limit int64) ([]byte, error) {
+	b.mu.Lock()
+	defer b.mu.Unlock()
+	if !b.read {
+		b.read = true
+		b.data, b.err = io.ReadAll(io.LimitReader(os.Stdin, limit+1))
+	}
+	return b.data, b.err
+}
+
+// readInput reads a whole input file (see openInput). Standard input is
+// read once and kept (see stdinBuffer).
 func readInput(path string) ([]byte, error) {
 	lim, err := EnvLimits()
 	if err != nil {
 		return nil, err
+	}
+	if path == Stdin {
+		data, err := stdin.all(lim.Bytes)
+		if err != nil {
+			return nil, &ParseError{File: path, Err: err}
+		}
+		if int64(len(data)) > lim.Bytes {
+			return nil, &ParseError{File: path, Err: fmt.Errorf("%w of %d bytes: raise it with %s=BYTES", ErrTooLarge, lim.Bytes, EnvMaxBytes)}
+		}
+		return data, nil
 	}
 	r, size, err := openInput(path)
 	if err != nil {

@@ -30,6 +30,13 @@ type Sniff struct {
 // what kind of table its header names (see Sniff), without reading the
 // rest; the error is the file's when it cannot be read as a table.
 func SniffCSV(path string) (Sniff, error) {
+	if path == Stdin { // read once, whole, and kept for its reader
+		data, err := readInput(path)
+		if err != nil {
+			return Sniff{}, err
+		}
+		return sniffHead(data[:min(len(data), sniffCSVBytes)], path)
+	}
 	rc, _, err := openInput(path)
 	if err != nil {
 		return Sniff{}, err
@@ -39,6 +46,12 @@ func SniffCSV(path string) (Sniff, error) {
 	if err != nil {
 		return Sniff{}, &ParseError{File: path, Err: err}
 	}
+	return sniffHead(head, path)
+}
+
+// sniffHead tells what the head of a CSV file (at most sniffCSVBytes of
+// it) names.
+func sniffHead(head []byte, path string) (Sniff, error) {
 	if len(head) == sniffCSVBytes {
 		if i := bytes.LastIndexByte(head, '\n'); i > 0 {
 			head = head[:i+1]

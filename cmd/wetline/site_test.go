@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"path/filepath"
 	"strings"
@@ -113,5 +114,41 @@ func TestSiteInWorkbooks(t *testing.T) {
 		if !found {
 			t.Errorf("%s: the summary sheet does not name the site", args[0])
 		}
+	}
+}
+
+// TestFitTextTitleNamesSite: the fit text report is titled with the
+// site's name when one is given, as its workbook's page header is; the
+// gaugings' own name otherwise. The JSON key site keeps the gaugings'
+// name, the site going to site_metadata.
+func TestFitTextTitleNamesSite(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	in := filepath.Join(dir, "tallow-gaugings.csv")
+	for _, tc := range []struct {
+		args  []string
+		title string
+	}{
+		{[]string{"--site", "Tallow X"}, "Gaugings at Tallow X: "},
+		{nil, "Gaugings at tallow-gaugings: "},
+	} {
+		out, errs, code := runCLI(t, append([]string{"fit", in, "--method", "lsq"}, tc.args...)...)
+		if code != 0 || !strings.HasPrefix(out, tc.title) {
+			t.Errorf("fit %v: exit %d %s: first line %q, want it to start %q", tc.args, code, errs, strings.SplitN(out, "\n", 2)[0], tc.title)
+		}
+	}
+	out, errs, code := runCLI(t, "fit", in, "--method", "lsq", "--site", "Tallow X", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Site         string
+		SiteMetadata struct{ Name string } `json:"site_metadata"`
+	}
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	if doc.Site != "tallow-gaugings" || doc.SiteMetadata.Name != "Tallow X" {
+		t.Errorf("json site %q, site_metadata.name %q; want tallow-gaugings and Tallow X", doc.Site, doc.SiteMetadata.Name)
 	}
 }

@@ -471,7 +471,7 @@ func stageGrid(keep []float64, lo, top, step float64) []float64 {
 	out := append([]float64(nil), keep...)
 	first := math.Ceil(lo / step)
 	for i := 0.0; ; i++ {
-		h := (first + i) * step
+		h := rating.StepMultiple(first+i, step) // 0.6, not 0.6000000000000001
 		if h >= top {
 			break
 		}

@@ -136,7 +136,7 @@ func Section(opt Options) (Result, error) {
 	if hb, ok := p.Ground.Section.Bankfull(); ok {
 		res.BankfullStage = hb
 		if ro.GaugeHeights {
-			res.BankfullStage = hb - ro.Datum
+			res.BankfullStage = rating.DecimalDifference(hb, ro.Datum)
 		}
 		if bt, err := rating.Compute(p.Geometry, []float64{hb}, ro.Options); err == nil && len(bt.Rows) == 1 {
 			res.BankfullDischarge = bt.Rows[0].Discharge

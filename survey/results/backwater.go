@@ -124,7 +124,9 @@ type jsonVerification struct {
 // "program", "expansion", "contraction" (the eddy-loss coefficients),
 // "verification" (null unless asked for), "site" and, where a section's
 // survey was given in coordinates, "survey_notes" ([{"section", "note"}]:
-// how its stations were made). The rating's "hydraulics" holds
+// how its stations were made), and last "input_notes" when the inputs
+// have notes (a boundary rating table naming no unit). The rating's
+// "hydraulics" holds
 // the section's full hydraulics at every computed stage in the row
 // objects of WriteRatingJSON. Spread is the larger difference of the
 // profiles from the second and half-way starts from the first (length
@@ -145,6 +147,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Verification *jsonVerification `json:"verification"`
 		Site         *jsonSite         `json:"site"`
 		SurveyNotes  []jsonSurveyNote  `json:"survey_notes,omitempty"`
+		InputNotes   []string          `json:"input_notes,omitempty"`
 	}{
 		Boundary: bwJSONBoundary(rep), Profiles: make([]jsonProfile, len(r.Profiles)),
 		Rating: jsonBWRating{Section: r.Rating.Section, Rows: make([]jsonRead, len(r.Rating.Rows)),
@@ -152,6 +155,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Warnings: nonNil(rep.Warnings), Caution: rating.Caution, Units: UnitNames(r.Units),
 		Reach: rep.Name, Program: programName(rep.Provenance),
 		Expansion: Float(r.Expansion), Contraction: Float(r.Contraction), Site: siteJSON(rep.Provenance.Site),
+		InputNotes: rep.Provenance.Notes,
 	}
 	for i, p := range r.Profiles {
 		out.Profiles[i] = bwJSONProfile(p)

@@ -101,6 +101,7 @@ func writeBWSummary(b *workbook.Book, rep reach.BackwaterReport) error {
 			SummaryItem{"largest departure from the marks", num("+0.000;-0.000;0.000", v.MaxDeparture), u.Length()})
 	}
 	items = append(items, SummaryItem{"note", BackwaterNote, ""})
+	items = append(items, inputNoteItems(rep.Provenance)...)
 	if err != nil {
 		return err
 	}

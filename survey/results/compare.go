@@ -61,8 +61,11 @@ type jsonRatingDifference struct {
 //	{"kind": "ratings", "a", "b", "units", "from", "to", "max_percent",
 //	 "max_stage", "rows": [{"stage", "discharge_a", "discharge_b",
 //	 "difference", "percent_difference", "shift"}], "ratings", "warnings",
-//	 "caution", "site", "max_difference", "max_difference_stage"}
+//	 "caution", "site", "max_difference", "max_difference_stage",
+//	 "input_notes"}
 //
+// input_notes, the notes of the inputs (a rating table naming no unit),
+// is left out when there are none.
 // max_percent is the largest absolute percent difference, max_difference
 // the largest B − A by size (signed); shift is the gauge-height shift of A
 // that gives B's discharge at the row's stage.
@@ -86,10 +89,11 @@ func WriteRatingComparisonJSON(w io.Writer, c *gauged.RatingComparison) error {
 		Site       *jsonSite              `json:"site"`
 		MaxDiff    Float                  `json:"max_difference"`
 		MaxDiffAt  Float                  `json:"max_difference_stage"`
+		Notes      []string               `json:"input_notes,omitempty"`
 	}{Kind: "ratings", A: c.A, B: c.B, Units: UnitNames(c.Units), From: Float(c.From), To: Float(c.To),
 		MaxPercent: Float(c.MaxPercent), MaxStage: Float(c.MaxStage), Rows: []jsonRatingDifference{},
 		MaxDiff: Float(c.MaxDifference), MaxDiffAt: Float(c.MaxDifferenceStage),
-		Warnings: nonNil(c.Warnings), Caution: rating.Caution, Site: siteJSON(c.Provenance.Site)}
+		Warnings: nonNil(c.Warnings), Caution: rating.Caution, Site: siteJSON(c.Provenance.Site), Notes: c.Provenance.Notes}
 	for _, r := range c.Rows {
 		out.Rows = append(out.Rows, jsonRatingDifference{Float(r.Stage), Float(r.A), Float(r.B), Float(r.Difference), Float(r.Percent), Float(r.Shift)})
 	}
@@ -179,6 +183,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"extrapolated above the highest gauging", extrapolationWords(c), ""},
 		{"largest difference", LargestDifference(c), ""},
 	}
+	items = append(items, inputNoteItems(c.Provenance)...)
 	if err := WriteSummarySheet(b, SheetSummary, items, c.Warnings); err != nil {
 		return err
 	}
@@ -260,7 +265,8 @@ func geometryJSON(g rating.SectionGeometry) jsonGeometry {
 //
 //	{"kind": "sections", "a", "b", "units", "rows": [{"stage",
 //	 "a": {"area", "wetted_perimeter", "top_width", "conveyance"}, "b": {...},
-//	 "difference": {...}, "conveyance_percent_difference"}], "warnings", "caution"}
+//	 "difference": {...}, "conveyance_percent_difference"}], "warnings", "caution",
+//	 "site", "input_notes"}
 //
 // Undefined values are null.
 func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error {

@@ -563,7 +563,10 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	L := u.Length()
 	p := func(format string, a ...any) { fmt.Fprintf(bw, format, a...) }
 	title := "Gaugings"
-	if r.Site != "" {
+	switch { // the site's name when known, as the workbook's page header
+	case r.Provenance.Site.Name != "":
+		title += " at " + r.Provenance.Site.Name
+	case r.Site != "":
 		title += " at " + r.Site
 	}
 	p("%s: %d measurements, %s units", title, len(r.Gaugings), u)

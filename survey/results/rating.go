@@ -157,7 +157,9 @@ func calibrationJSON(c *rating.NCalibration) *jsonCalibration {
 
 // WriteRatingJSON writes a rating report as one JSON object:
 // {"section","units","slope","rows":[...],"gauge_datum","site",
-// "warnings":[...],"caution","calibration"}. calibration is null unless
+// "warnings":[...],"caution","calibration","input_notes"}; input_notes,
+// the notes of the input (how a coordinate survey was projected), is left
+// out when there are none. calibration is null unless
 // n was calibrated on gaugings; then it holds the factor, its standard
 // error in percent (factor_standard_error_percent), the gaugings' scatter
 // about the calibrated rating (standard_error_percent, the standard error
@@ -173,14 +175,15 @@ func WriteRatingJSON(w io.Writer, rep rating.RatingReport) error {
 		{key: "gauge_datum", value: gaugeDatum(t)},
 		{key: "site", value: siteJSON(rep.Provenance.Site)},
 	}
-	if len(rep.Provenance.Notes) > 0 {
-		fields = append(fields, jsonField{key: "input_notes", value: rep.Provenance.Notes})
-	}
-	return writeJSONObject(w, append(fields, []jsonField{
+	fields = append(fields, []jsonField{
 		{key: "warnings", value: nonNil(rep.Warnings)},
 		{key: "caution", value: rating.Caution},
 		{key: "calibration", value: calibrationJSON(rep.Calibration)},
-	}...))
+	}...)
+	if len(rep.Provenance.Notes) > 0 {
+		fields = append(fields, jsonField{key: "input_notes", value: rep.Provenance.Notes})
+	}
+	return writeJSONObject(w, fields)
 }
 
 // ratingJSONRow lays out one row of a rating table in JSON.

@@ -71,6 +71,7 @@ type solveDischargeJSON struct {
 	Warnings       []string        `json:"warnings"`
 	Caution        string          `json:"caution"`
 	Site           *jsonSite       `json:"site"`
+	Notes          []string        `json:"input_notes,omitempty"`
 }
 
 // solveAreaJSON is the JSON of a solve report for a flow area.
@@ -87,6 +88,7 @@ type solveAreaJSON struct {
 	Warnings        []string  `json:"warnings"`
 	Caution         string    `json:"caution"`
 	Site            *jsonSite `json:"site"`
+	Notes           []string  `json:"input_notes,omitempty"`
 }
 
 // solveStageJSON is the JSON of a solve report for a stage.
@@ -100,6 +102,7 @@ type solveStageJSON struct {
 	Warnings          []string  `json:"warnings"`
 	Caution           string    `json:"caution"`
 	Site              *jsonSite `json:"site"`
+	Notes             []string  `json:"input_notes,omitempty"`
 }
 
 // nullIfZero is a slope that was not given: null.
@@ -119,8 +122,10 @@ func nullIfZero(v float64) Float {
 // "top_width","wetted_perimeter","hydraulic_radius","full","warnings",
 // "caution"}; for a stage {"section","units","stage","critical_discharge",
 // "slope","uniform_discharge","warnings","caution"}; each ends with "site"
-// (what is known of the site, null when nothing). Keys come in that
-// order; undefined values are null.
+// (what is known of the site, null when nothing) and "input_notes" (the
+// notes of the input, such as how a coordinate survey was projected; left
+// out when there are none). Keys come in that order; undefined values are
+// null.
 func WriteSolveJSON(w io.Writer, rep rating.SolveReport) error {
 	warnings := nonNil(rep.Warnings)
 	switch {
@@ -129,12 +134,12 @@ func WriteSolveJSON(w io.Writer, rep rating.SolveReport) error {
 		return writeJSON(w, solveAreaJSON{Section: rep.Section, Units: UnitNames(rep.Units), Area: Float(a.Area),
 			Stage: Float(a.Root.Stage), Depth: Float(a.Root.Depth), TopWidth: Float(a.TopWidth),
 			WettedPerimeter: Float(a.WettedPerimeter), HydraulicRadius: Float(a.HydraulicRadius), Full: a.Full,
-			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site)})
+			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site), Notes: rep.Provenance.Notes})
 	case rep.Stage != nil:
 		a := rep.Stage
 		return writeJSON(w, solveStageJSON{Section: rep.Section, Units: UnitNames(rep.Units), Stage: Float(a.Stage),
 			CriticalDischarge: Float(a.CriticalDischarge), Slope: nullIfZero(rep.Slope), UniformDischarge: Float(a.UniformDischarge),
-			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site)})
+			Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site), Notes: rep.Provenance.Notes})
 	case rep.Discharge != nil:
 		return writeJSON(w, solveDischarge(rep, warnings))
 	}
@@ -155,6 +160,7 @@ func solveDischarge(rep rating.SolveReport, warnings []string) solveDischargeJSO
 		ClosedConduit: s.Closed, FullDischarge: Float(s.FullDischarge),
 		PeakDischarge: Float(s.PeakDischarge), PeakStage: Float(s.PeakStage),
 		Warnings: warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site),
+		Notes: rep.Provenance.Notes,
 	}
 	for i, n := range s.Normal {
 		var regime *string
