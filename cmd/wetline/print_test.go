@@ -19,7 +19,7 @@ import (
 // written here with their figures): the page header and footer, the house
 // margins, and for a table sheet one page wide with its header rows
 // repeated, landscape exactly when its columns are wider than a portrait
-// page; for the plots sheet landscape, one page wide, a page per figure.
+// page; for the plots sheet landscape at full size with a page per figure.
 func TestWorkbooksPrint(t *testing.T) {
 	t.Parallel()
 	demo, _ := demoOutput(t)
@@ -125,16 +125,12 @@ func checkTablePrint(t *testing.T, f *excelize.File, sheet string, pl excelize.P
 	}
 }
 
-// checkPlotsPrint checks that a plots sheet prints landscape one page
-// wide, as the table sheets do, with a page per figure (only column A:
-// the print area).
+// checkPlotsPrint checks that a plots sheet prints landscape at full size
+// with a page per figure (only column A: the print area).
 func checkPlotsPrint(t *testing.T, f *excelize.File, pl excelize.PageLayoutOptions, where string) {
 	t.Helper()
-	if *pl.Orientation != workbook.Landscape || pl.FitToWidth == nil || *pl.FitToWidth != 1 || pl.FitToHeight == nil || *pl.FitToHeight != 0 {
-		t.Errorf("%s: %s, fit %v wide %v tall; want landscape, 1 wide, any tall", where, *pl.Orientation, pl.FitToWidth, pl.FitToHeight)
-	}
-	if props, err := f.GetSheetProps("plots"); err != nil || props.FitToPage == nil || !*props.FitToPage {
-		t.Errorf("%s: not fitted to the page width (%v)", where, err)
+	if *pl.Orientation != workbook.Landscape || *pl.AdjustTo != 100 {
+		t.Errorf("%s: %s at %d %%", where, *pl.Orientation, *pl.AdjustTo)
 	}
 	cells, err := f.GetPictureCells("plots")
 	if err != nil || len(cells) == 0 {

@@ -13,8 +13,7 @@ import (
 // Table and input sheets print one page wide and as many pages tall as
 // needed, their header rows repeated on every page, in landscape when
 // their columns are wider than a portrait page. Picture sheets print in
-// landscape, one page wide (their column fits the page: nothing is
-// scaled), one whole picture per page.
+// landscape at full size, one whole picture per page.
 
 // Margins of every printed page, in inches (common practice for A4 and
 // US Letter: half an inch at the sides, three quarters at head and foot
@@ -114,21 +113,15 @@ func (b *Book) printSetupRows(sheet string, first, last int, widths float64) err
 func columnPixels(widths float64) float64 { return widths * 7 }
 
 // picturePrintSetup sets up the printing of a picture sheet whose
-// pictures fill column A down to row last: landscape, one page wide as
-// every sheet of a Book prints, column A only. Column A fits a landscape
-// page, so fitting it to the width scales nothing; the height is left to
-// the page breaks (fit to no number of pages tall), so the manual break
-// before each caption still starts a page.
+// pictures fill column A down to row last: landscape at full size (never
+// scaled to fit, which would make spreadsheet programs ignore its page
+// breaks), column A only.
 func (b *Book) picturePrintSetup(sheet string, last int) error {
 	if err := b.pageHead(sheet); err != nil {
 		return err
 	}
-	fit, one, zero := true, 1, 0
-	if err := b.f.SetSheetProps(sheet, &excelize.SheetPropsOptions{FitToPage: &fit}); err != nil {
-		return err
-	}
-	orient := Landscape
-	if err := b.f.SetPageLayout(sheet, &excelize.PageLayoutOptions{Orientation: &orient, FitToWidth: &one, FitToHeight: &zero}); err != nil {
+	orient, full := Landscape, uint(100)
+	if err := b.f.SetPageLayout(sheet, &excelize.PageLayoutOptions{Orientation: &orient, AdjustTo: &full}); err != nil {
 		return err
 	}
 	return b.f.SetDefinedName(&excelize.DefinedName{

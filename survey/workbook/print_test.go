@@ -227,7 +227,7 @@ func rowBreaks(t *testing.T, data []byte, sheetFile string) []int {
 }
 
 // A picture sheet prints each picture whole on a landscape page of its
-// own, one page wide as the other sheets: pictures scaled into the picture box (aspect kept,
+// own, at full size: pictures scaled into the picture box (aspect kept,
 // small ones not enlarged), each in a row as tall as itself under its
 // caption, a manual page break before every caption but the first, only
 // column A printed, and the page header and footer of the other sheets.
@@ -283,11 +283,11 @@ func TestPicturesPrint(t *testing.T) {
 		t.Errorf("page breaks after rows %v, want %v", got, want)
 	}
 	pl, err := f.GetPageLayout("plots")
-	if err != nil || *pl.Orientation != Landscape || pl.FitToWidth == nil || *pl.FitToWidth != 1 || pl.FitToHeight == nil || *pl.FitToHeight != 0 {
-		t.Errorf("plots: %s, fit %v wide %v tall, want landscape, 1 wide, any tall (%v)", *pl.Orientation, pl.FitToWidth, pl.FitToHeight, err)
+	if err != nil || *pl.Orientation != Landscape || *pl.AdjustTo != 100 {
+		t.Errorf("plots: %s at %d %%, want landscape at full size (%v)", *pl.Orientation, *pl.AdjustTo, err)
 	}
-	if props, _ := f.GetSheetProps("plots"); props.FitToPage == nil || !*props.FitToPage {
-		t.Errorf("plots not fitted to the page width")
+	if props, _ := f.GetSheetProps("plots"); props.FitToPage != nil && *props.FitToPage {
+		t.Errorf("plots fitted to the page: its page breaks would be ignored")
 	}
 	if got := definedName(f, "plots", "_xlnm.Print_Area"); got != "'plots'!$A$1:$A$6" {
 		t.Errorf("print area %q", got)
