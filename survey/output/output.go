@@ -524,7 +524,7 @@ func (f *Files) Commit() error {
 	for _, st := range steps {
 		st.dropBackup()
 		if st.folder != nil {
-			os.Remove(st.folder.lock)
+			st.folder.lock.release()
 		}
 	}
 	f.staged, f.folders, f.made = nil, nil, nil

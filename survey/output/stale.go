@@ -13,13 +13,13 @@ import (
 // stalePart matches what follows "." + an output's name + "." in the
 // names of the temporary entries a run makes beside that output: the
 // process id, a dash, a sequence number, and the kind (see tempName,
-// Files.Folder, Files.backup and install).
-var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.old)$`)
+// Files.Folder, Files.backup, install and takeLock).
+var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.old|lock|lock\.old)$`)
 
 // CleanStale removes the temporary entries that killed runs left beside
 // the output dest: only names of the forms this package makes ("." + the
-// output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir" or ".tmpdir.old"),
-// not links, owned by this user, of a process that no longer runs, and
+// output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir", ".tmpdir.old",
+// ".lock" or ".lock.old"), not links, owned by this user, of a process that no longer runs, and
 // unchanged for at least age before now. A backup (".bak") is removed
 // only while it is still the file at dest (the hard link a commit makes
 // first), since otherwise it may be the one copy of the earlier content.
@@ -28,7 +28,9 @@ var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.ol
 // one was put in place) is removed only when it holds nothing but
 // regular files, as such a folder does, and ".tmpdir.old" only when dest
 // exists, since with dest missing it may be the one copy of the earlier
-// output. It returns the paths removed; anything it cannot read is left
+// output. A lock's content written before it is put in place (".lock")
+// and a stale lock moved aside (".lock.old") are removed when they are
+// regular files. It returns the paths removed; anything it cannot read is left
 // alone.
 func CleanStale(dest string, age time.Duration, now time.Time) []string {
 	parent, base := filepath.Dir(dest), filepath.Base(dest)
@@ -56,7 +58,7 @@ func CleanStale(dest string, age time.Duration, now time.Time) []string {
 			continue
 		}
 		switch kind := m[2]; kind {
-		case "tmp":
+		case "tmp", "lock", "lock.old":
 			if !st.Mode().IsRegular() || os.Remove(path) != nil {
 				continue
 			}

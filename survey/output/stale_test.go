@@ -43,6 +43,8 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv", "b.csv"),
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.old", ended)), "index.csv"),
 		file(fmt.Sprintf(".ratings.%d-3.tmp", ended)),
+		file(fmt.Sprintf(".ratings.%d-10.lock", ended)),
+		file(fmt.Sprintf(".ratings.%d-11.lock.old", ended)),
 	}
 	withFolder := staleFolder(t, p(fmt.Sprintf(".ratings.%d-5.tmpdir", ended)), "a.csv")
 	if err := os.Mkdir(filepath.Join(withFolder, "sub"), 0o755); err != nil {
@@ -65,6 +67,7 @@ func TestCleanStale(t *testing.T) {
 		staleFolder(t, p(fmt.Sprintf(".other.%d-1.tmpdir", ended))),                  // another output's
 		staleFolder(t, p(fmt.Sprintf(".ratings.1.%d-1.tmpdir", ended))),              // that of ratings.1
 		staleFolder(t, p(fmt.Sprintf(".gone.%d-1.tmpdir.old", ended)), "index.csv"),  // the one copy of gone
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-12.lock", ended))),                 // not a file
 		file(fmt.Sprintf(".ratings.%d-8.tmp.txt", ended)),
 		file(fmt.Sprintf(".ratings.%d-4.bak", ended)), // not the output itself: may be the one copy
 	}
