@@ -489,3 +489,85 @@ func TestFolderLockRefreshed(t *testing.T) {
 		t.Errorf("the lock's time is %v, not renewed by a write", st.ModTime())
 	}
 }
+
+// When a commit fails and a folder already swapped in cannot be swapped
+// back out, the earlier output the error names as kept beside it stays
+// there, through later runs writing the same folder, until the user
+// takes it.
+func TestFolderFailedRollbackKeepsEarlierOutput(t *testing.T) {
+	dir := t.TempDir()
+	first, second := filepath.Join(dir, "ratings"), filepath.Join(dir, "tables")
+	f := rewriteFolder(t, first)
+	if err := writeFolder(t, f, second, "c.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	f.rename = func(o, n string) error {
+		// The second folder cannot be put in place, nor the first
+		// swapped back out.
+		if n == second || (o == first && strings.HasSuffix(n, ".tmpdir")) {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+	err := f.Commit()
+	if err == nil || errors.Is(err, ErrCommit) {
+		t.Fatalf("commit: %v, want an error saying what was changed", err)
+	}
+	var kept string
+	for _, n := range names(t, dir) {
+		if strings.HasPrefix(n, ".ratings.") && strings.HasSuffix(n, ".tmpdir.old") {
+			kept = filepath.Join(dir, n)
+		}
+	}
+	if kept == "" || !strings.Contains(err.Error(), kept) {
+		t.Fatalf("commit: %v; beside the folder: %v; want the earlier output kept and named", err, names(t, dir))
+	}
+	if got := readString(t, filepath.Join(kept, "a.csv")); got != "a.csv" {
+		t.Errorf("the kept folder's a.csv holds %q", got)
+	}
+	// As a later run sees it, once this process has ended.
+	later := filepath.Join(dir, fmt.Sprintf(".ratings.%d-1.tmpdir.old", ended))
+	if err := os.Rename(kept, later); err != nil {
+		t.Fatal(err)
+	}
+	g := New()
+	if err := writeFolder(t, g, first, "d.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, filepath.Join(later, "a.csv")); got != "a.csv" {
+		t.Errorf("after a later run the kept earlier output is gone or changed: %q", got)
+	}
+}
+
+// When a folder cannot be put in place and its earlier output cannot be
+// put back either, the earlier output is kept beside it, and named.
+func TestFolderFailedInstallKeepsEarlierOutput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	f := rewriteFolder(t, out)
+	f.rename = func(o, n string) error {
+		if n == out {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+	err := f.Commit()
+	if err == nil || errors.Is(err, ErrCommit) {
+		t.Fatalf("commit: %v, want an error saying what was changed", err)
+	}
+	var kept string
+	for _, n := range names(t, dir) {
+		if strings.HasSuffix(n, ".tmpdir.old") {
+			kept = filepath.Join(dir, n)
+		}
+	}
+	if kept == "" || !strings.Contains(err.Error(), kept) {
+		t.Fatalf("commit: %v; beside the folder: %v; want the earlier output kept and named", err, names(t, dir))
+	}
+	if got := readString(t, filepath.Join(kept, "a.csv")); got != "a.csv" {
+		t.Errorf("the kept folder's a.csv holds %q", got)
+	}
+}
