@@ -1,6 +1,7 @@
 package output
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -9,6 +10,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"syscall"
 	"time"
 )
@@ -39,12 +41,13 @@ type Listed func(index []byte) ([]string, error)
 // that replacing it loses nothing but an earlier output. One run at a
 // time may write it.
 type Folder struct {
-	files           *Files
-	dest, tmp, lock string
-	marker          string
-	listed          Listed
-	names           map[string]bool
-	swapped         bool
+	files     *Files
+	dest, tmp string
+	lock      *folderLock
+	marker    string
+	listed    Listed
+	names     map[string]bool
+	swapped   bool
 }
 
 // Folder starts an output folder at path; marker names the index file
@@ -75,26 +78,26 @@ func (f *Files) Folder(path, marker string, listed Listed) (*Folder, error) {
 	if err := f.rulesLocked().checkFolder(parent); err != nil {
 		return fail(err)
 	}
-	d := &Folder{files: f, dest: path, marker: marker, listed: listed,
-		lock: filepath.Join(parent, "."+base+".lock"), names: map[string]bool{}}
+	d := &Folder{files: f, dest: path, marker: marker, listed: listed, names: map[string]bool{}}
 	if err := d.check(); err != nil {
 		return nil, err
 	}
 	if err := os.MkdirAll(parent, 0o755); err != nil {
 		return nil, err
 	}
-	age, err := takeLock(d.lock)
+	lock, err := takeLock(path)
 	if err != nil {
 		return fail(err)
 	}
+	d.lock = lock
 	// The lock held, no other run writes this output: what killed runs
 	// left beside it goes now (a day on, when the lock taken over was
 	// written elsewhere).
-	CleanStale(path, age, time.Now())
+	CleanStale(path, lock.age, time.Now())
 	f.seq++
 	d.tmp = filepath.Join(parent, fmt.Sprintf(".%s.%d-%d.tmpdir", base, os.Getpid(), f.seq))
 	if err := os.Mkdir(d.tmp, 0o755); err != nil {
-		os.Remove(d.lock)
+		lock.release()
 		return nil, fmt.Errorf("cannot write in %s: %w", parent, err)
 	}
 	f.folders = append(f.folders, d)
@@ -168,44 +171,180 @@ func (d *Folder) check() error {
 	return nil
 }
 
-// takeLock creates the lock file holding this process's id and where it
-// runs (see here); a lock left by a process that has ended is taken over.
-// A lock written elsewhere (another host sharing the disk, another
-// process-id namespace) names a process id that says nothing here: it is
-// held until it is ScratchAge old. It returns the age from which the
-// temporary entries beside the folder are another run's leftovers: 0,
-// or ScratchAge once a lock written elsewhere was taken over, as that
-// run's own entries cannot be told from a live run's.
-func takeLock(lock string) (time.Duration, error) {
+// LockGrace is how long a lock that cannot be read (empty, or not one
+// this package writes) is taken as held: a lock is written whole before
+// it is put in place, but where hard links cannot be made it is created
+// first and written after, and a moment empty. Older than this, such a
+// lock is taken as a stale one.
+const LockGrace = time.Minute
+
+// lockRefresh is how often the time of a held lock is renewed as the
+// folder's files are written, so that a long run is not taken for an
+// ended one where its lock is judged by its age (a lock written on
+// another host).
+const lockRefresh = time.Minute
+
+// lockSeq numbers the entries a lock is written and taken over through,
+// unique within the process.
+var lockSeq atomic.Int64
+
+// folderLock is the lock a run holds on an output folder.
+type folderLock struct {
+	path    string
+	info    fs.FileInfo // the lock file this run made
+	touched time.Time   // when its time was last renewed
+	age     time.Duration
+}
+
+// takeLock creates the lock file of the output folder dest, holding this
+// process's id and where it runs (see here); a lock left by a process
+// that has ended is taken over. A lock written elsewhere (another host
+// sharing the disk, another process-id namespace) names a process id
+// that says nothing here: it is held until it is ScratchAge old. A lock
+// that cannot be read is held until it is LockGrace old. The lock's age
+// from which the temporary entries beside the folder are another run's
+// leftovers is 0, or ScratchAge once a lock written elsewhere (or one
+// that cannot be read) was taken over, as that run's own entries cannot
+// be told from a live run's.
+//
+// The lock is written whole under a name of its own (".NAME.PID-N.lock")
+// and linked in place, which never replaces a file. A stale lock is
+// taken over by renaming it aside to a name of this run's own
+// (".NAME.PID-N.lock.old"): of runs taking over the same lock at once,
+// only one rename succeeds. The one renamed aside is checked to be the
+// very lock judged stale; when it is not (another run took the stale
+// lock over and made its own in between), it is linked back in place.
+func takeLock(dest string) (*folderLock, error) {
+	parent, base := filepath.Dir(dest), filepath.Base(dest)
+	lock := filepath.Join(parent, "."+base+".lock")
+	own := func(kind string) string {
+		return filepath.Join(parent, fmt.Sprintf(".%s.%d-%d.%s", base, os.Getpid(), lockSeq.Add(1), kind))
+	}
 	me := here()
+	content := []byte(strings.TrimSpace(fmt.Sprintf("%d %s", os.Getpid(), me)) + "\n")
+	fresh := own("lock")
+	if err := writeLock(fresh, content); err != nil {
+		return nil, err
+	}
+	defer os.Remove(fresh)
 	var age time.Duration
-	for range 2 {
-		lf, err := os.OpenFile(lock, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	for range 10 {
+		err := os.Link(fresh, lock)
+		if err != nil && !errors.Is(err, fs.ErrExist) {
+			// No hard links here: the lock is created in place, and
+			// is empty for a moment (LockGrace).
+			err = writeLock(lock, content)
+		}
 		if err == nil {
-			_, err = fmt.Fprintln(lf, strings.TrimSpace(fmt.Sprintf("%d %s", os.Getpid(), me)))
-			if cerr := lf.Close(); err == nil {
-				err = cerr
+			st, err := os.Lstat(lock)
+			if err != nil {
+				return nil, err
 			}
-			return age, err
+			return &folderLock{path: lock, info: st, touched: time.Now(), age: age}, nil
 		}
 		if !errors.Is(err, fs.ErrExist) {
-			return 0, err
+			return nil, err
 		}
-		data, _ := os.ReadFile(lock)
-		pid, where, perr := readLock(data)
-		switch {
-		case perr == nil && where != "" && where != me:
-			st, err := os.Lstat(lock)
-			if err != nil || time.Since(st.ModTime()) < ScratchAge {
-				return 0, fmt.Errorf("%w (process %d on %s; its lock is %s, held until it is a day old)", ErrBusy, pid, where, lock)
+		data, rerr := os.ReadFile(lock)
+		st, serr := os.Lstat(lock)
+		if errors.Is(rerr, fs.ErrNotExist) || errors.Is(serr, fs.ErrNotExist) {
+			continue // released meanwhile
+		}
+		if rerr != nil {
+			return nil, rerr
+		}
+		if serr != nil {
+			return nil, serr
+		}
+		after, err := staleLock(lock, data, st, me, time.Now())
+		if err != nil {
+			return nil, err
+		}
+		aside := own("lock.old")
+		if err := os.Rename(lock, aside); err != nil {
+			if errors.Is(err, fs.ErrNotExist) {
+				continue // another run moved it first
 			}
-			age = ScratchAge
-		case perr == nil && alive(pid):
-			return 0, fmt.Errorf("%w (process %d; its lock is %s)", ErrBusy, pid, lock)
+			return nil, err
 		}
-		os.Remove(lock) // stale: its process has ended
+		moved, rerr := os.ReadFile(aside)
+		mst, serr := os.Lstat(aside)
+		if rerr == nil && serr == nil && os.SameFile(st, mst) && bytes.Equal(moved, data) {
+			// The stale lock itself: it goes, and the next turn puts
+			// this run's in its place.
+			os.Remove(aside)
+			age = max(age, after)
+			continue
+		}
+		// Another run's lock, made since the stale one was read: back
+		// in place (a link, which never replaces a lock made since).
+		if err := os.Link(aside, lock); err != nil && !errors.Is(err, fs.ErrExist) {
+			os.Rename(aside, lock)
+		}
+		os.Remove(aside)
 	}
-	return 0, fmt.Errorf("%w (lock %s)", ErrBusy, lock)
+	return nil, fmt.Errorf("%w (lock %s)", ErrBusy, lock)
+}
+
+// staleLock judges a lock another run holds, read as data with its
+// file's st: an error (ErrBusy) while it is held, or else the age from
+// which the entries beside the folder are leftovers (see takeLock).
+func staleLock(lock string, data []byte, st fs.FileInfo, me string, now time.Time) (time.Duration, error) {
+	pid, where, err := readLock(data)
+	switch {
+	case err != nil:
+		if now.Sub(st.ModTime()) < LockGrace {
+			return 0, fmt.Errorf("%w (its lock %s does not say which process holds it, and is taken as held until it is a minute old)", ErrBusy, lock)
+		}
+		return ScratchAge, nil
+	case where != "" && where != me:
+		if now.Sub(st.ModTime()) < ScratchAge {
+			return 0, fmt.Errorf("%w (process %d on %s; its lock is %s, held until it is a day old)", ErrBusy, pid, where, lock)
+		}
+		return ScratchAge, nil
+	case alive(pid):
+		return 0, fmt.Errorf("%w (process %d; its lock is %s)", ErrBusy, pid, lock)
+	}
+	return 0, nil // its process has ended
+}
+
+// writeLock creates a new lock file holding content.
+func writeLock(path string, content []byte) error {
+	lf, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	if err != nil {
+		return err
+	}
+	_, err = lf.Write(content)
+	if cerr := lf.Close(); err == nil {
+		err = cerr
+	}
+	if err != nil {
+		os.Remove(path)
+	}
+	return err
+}
+
+// mine reports whether the lock file is still the one this run made.
+func (l *folderLock) mine() bool {
+	st, err := os.Lstat(l.path)
+	return err == nil && os.SameFile(st, l.info)
+}
+
+// touch renews the time of the lock, at most once every lockRefresh.
+func (l *folderLock) touch(now time.Time) {
+	if now.Sub(l.touched) < lockRefresh || !l.mine() {
+		return
+	}
+	if os.Chtimes(l.path, now, now) == nil {
+		l.touched = now
+	}
+}
+
+// release removes the lock, while it is this run's.
+func (l *folderLock) release() {
+	if l.mine() {
+		os.Remove(l.path)
+	}
 }
 
 // readLock reads a lock file: the process id, and where the process
@@ -274,13 +413,15 @@ func (d *Folder) create(name string) (*os.File, error) {
 		return nil, fmt.Errorf("%s: %w", d.Path(name), ErrTwice)
 	}
 	d.names[key] = true
+	d.lock.touch(time.Now())
 	return os.OpenFile(filepath.Join(d.tmp, name), os.O_RDWR|os.O_CREATE|os.O_EXCL, 0o644)
 }
 
-// remove deletes the staged folder and the lock.
+// remove deletes the staged folder, unless it was swapped in and could
+// not be swapped back out, and the lock.
 func (d *Folder) remove() {
 	if !d.swapped {
 		os.RemoveAll(d.tmp)
-		os.Remove(d.lock)
 	}
+	d.lock.release()
 }

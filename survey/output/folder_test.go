@@ -8,6 +8,7 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 )
 
 const marker = "index.csv"
@@ -356,4 +357,217 @@ func names(t *testing.T, dir string) []string {
 		out = append(out, e.Name())
 	}
 	return out
+}
+
+// Runs that find the same stale lock at once take it over one at a time:
+// of two racing for it, exactly one holds the folder and the other is
+// told it is busy, every time.
+func TestFolderStaleLockRace(t *testing.T) {
+	for round := range 300 {
+		dir := t.TempDir()
+		out := filepath.Join(dir, "ratings")
+		writeString(t, filepath.Join(dir, ".ratings.lock"), fmt.Sprintf("%d %s\n", ended, here()))
+		var (
+			start = make(chan struct{})
+			errs  = make(chan error, 2)
+			sets  = []*Files{New(), New()}
+		)
+		for _, f := range sets {
+			go func() {
+				<-start
+				_, err := f.Folder(out, marker, lines)
+				errs <- err
+			}()
+		}
+		close(start)
+		won := 0
+		for range sets {
+			switch err := <-errs; {
+			case err == nil:
+				won++
+			case !errors.Is(err, ErrBusy):
+				t.Fatalf("round %d: %v, want ErrBusy", round, err)
+			}
+		}
+		for _, f := range sets {
+			f.Discard()
+		}
+		if won != 1 {
+			t.Fatalf("round %d: %d runs took over the stale lock, want 1", round, won)
+		}
+		if l := leftovers(t, dir); len(l) > 0 {
+			t.Fatalf("round %d: left beside the folder: %v", round, l)
+		}
+	}
+}
+
+// A lock that cannot be read (empty, as one just created and not yet
+// written, or not a lock wetline writes) is taken as held until it is
+// LockGrace old, then as stale.
+func TestFolderUnreadableLock(t *testing.T) {
+	for _, content := range []string{"", "\n", "pid?\n"} {
+		dir := t.TempDir()
+		out := filepath.Join(dir, "ratings")
+		lock := filepath.Join(dir, ".ratings.lock")
+		writeString(t, lock, content)
+		f := New()
+		if _, err := f.Folder(out, marker, lines); !errors.Is(err, ErrBusy) {
+			t.Errorf("a new lock holding %q: %v, want ErrBusy", content, err)
+		}
+		f.Discard()
+		if got := readString(t, lock); got != content {
+			t.Errorf("a new lock holding %q now holds %q", content, got)
+		}
+		old := time.Now().Add(-LockGrace - time.Second)
+		if err := os.Chtimes(lock, old, old); err != nil {
+			t.Fatal(err)
+		}
+		g := New()
+		if err := writeFolder(t, g, out, "a.csv", marker); err != nil {
+			t.Errorf("a lock holding %q, LockGrace old: %v, want it taken over", content, err)
+		}
+		if err := g.Commit(); err != nil {
+			t.Fatal(err)
+		}
+		if l := leftovers(t, dir, "ratings"); len(l) > 0 {
+			t.Errorf("left beside it: %v", l)
+		}
+	}
+}
+
+// The lock a run holds is never seen half-written: it appears whole,
+// saying the process and where it runs, and only the lock is left
+// beside the folder while the run writes.
+func TestFolderLockWrittenWhole(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	f := New()
+	defer f.Discard()
+	if _, err := f.Folder(out, marker, lines); err != nil {
+		t.Fatal(err)
+	}
+	if got, want := readString(t, filepath.Join(dir, ".ratings.lock")), fmt.Sprintf("%d %s\n", os.Getpid(), here()); got != want {
+		t.Errorf("the lock holds %q, want %q", got, want)
+	}
+	var beside []string
+	for _, n := range leftovers(t, dir) {
+		if !strings.HasSuffix(n, ".tmpdir") {
+			beside = append(beside, n)
+		}
+	}
+	if fmt.Sprint(beside) != "[.ratings.lock]" {
+		t.Errorf("beside the folder: %v, want the lock and the staged folder", beside)
+	}
+}
+
+// A run's lock is kept fresh while it writes: its time is renewed as
+// files are written, so that a long run on another host is not taken for
+// an ended one.
+func TestFolderLockRefreshed(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	lock := filepath.Join(dir, ".ratings.lock")
+	f := New()
+	defer f.Discard()
+	d, err := f.Folder(out, marker, lines)
+	if err != nil {
+		t.Fatal(err)
+	}
+	old := time.Now().Add(-ScratchAge + time.Hour)
+	if err := os.Chtimes(lock, old, old); err != nil {
+		t.Fatal(err)
+	}
+	d.lock.touched = old
+	if err := d.Write("a.csv", text("stage\n")); err != nil {
+		t.Fatal(err)
+	}
+	st, err := os.Stat(lock)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if time.Since(st.ModTime()) > time.Hour {
+		t.Errorf("the lock's time is %v, not renewed by a write", st.ModTime())
+	}
+}
+
+// When a commit fails and a folder already swapped in cannot be swapped
+// back out, the earlier output the error names as kept beside it stays
+// there, through later runs writing the same folder, until the user
+// takes it.
+func TestFolderFailedRollbackKeepsEarlierOutput(t *testing.T) {
+	dir := t.TempDir()
+	first, second := filepath.Join(dir, "ratings"), filepath.Join(dir, "tables")
+	f := rewriteFolder(t, first)
+	if err := writeFolder(t, f, second, "c.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	f.rename = func(o, n string) error {
+		// The second folder cannot be put in place, nor the first
+		// swapped back out.
+		if n == second || (o == first && strings.HasSuffix(n, ".tmpdir")) {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+	err := f.Commit()
+	if err == nil || errors.Is(err, ErrCommit) {
+		t.Fatalf("commit: %v, want an error saying what was changed", err)
+	}
+	var kept string
+	for _, n := range names(t, dir) {
+		if strings.HasPrefix(n, ".ratings.") && strings.HasSuffix(n, ".tmpdir.old") {
+			kept = filepath.Join(dir, n)
+		}
+	}
+	if kept == "" || !strings.Contains(err.Error(), kept) {
+		t.Fatalf("commit: %v; beside the folder: %v; want the earlier output kept and named", err, names(t, dir))
+	}
+	if got := readString(t, filepath.Join(kept, "a.csv")); got != "a.csv" {
+		t.Errorf("the kept folder's a.csv holds %q", got)
+	}
+	// As a later run sees it, once this process has ended.
+	later := filepath.Join(dir, fmt.Sprintf(".ratings.%d-1.tmpdir.old", ended))
+	if err := os.Rename(kept, later); err != nil {
+		t.Fatal(err)
+	}
+	g := New()
+	if err := writeFolder(t, g, first, "d.csv", marker); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.Commit(); err != nil {
+		t.Fatal(err)
+	}
+	if got := readString(t, filepath.Join(later, "a.csv")); got != "a.csv" {
+		t.Errorf("after a later run the kept earlier output is gone or changed: %q", got)
+	}
+}
+
+// When a folder cannot be put in place and its earlier output cannot be
+// put back either, the earlier output is kept beside it, and named.
+func TestFolderFailedInstallKeepsEarlierOutput(t *testing.T) {
+	dir := t.TempDir()
+	out := filepath.Join(dir, "ratings")
+	f := rewriteFolder(t, out)
+	f.rename = func(o, n string) error {
+		if n == out {
+			return &os.LinkError{Op: "rename", Old: o, New: n, Err: syscall.EPERM}
+		}
+		return os.Rename(o, n)
+	}
+	err := f.Commit()
+	if err == nil || errors.Is(err, ErrCommit) {
+		t.Fatalf("commit: %v, want an error saying what was changed", err)
+	}
+	var kept string
+	for _, n := range names(t, dir) {
+		if strings.HasSuffix(n, ".tmpdir.old") {
+			kept = filepath.Join(dir, n)
+		}
+	}
+	if kept == "" || !strings.Contains(err.Error(), kept) {
+		t.Fatalf("commit: %v; beside the folder: %v; want the earlier output kept and named", err, names(t, dir))
+	}
+	if got := readString(t, filepath.Join(kept, "a.csv")); got != "a.csv" {
+		t.Errorf("the kept folder's a.csv holds %q", got)
+	}
 }

@@ -505,8 +505,13 @@ func (f *Files) Commit() error {
 	for i, st := range steps {
 		if err := f.install(st); err != nil {
 			kept := ""
+			if st.folder != nil && st.backup != "" {
+				// The earlier folder, moved aside, could not be put back.
+				kept = fmt.Sprintf("; %s could not be restored (%v): its earlier content is kept as %s", st.dest, st.restoreErr, st.backup)
+				st.backup = "" // keep it
+			}
 			for j := i - 1; j >= 0; j-- {
-				if rerr := steps[j].undo(); rerr != nil {
+				if rerr := steps[j].undo(f.rename); rerr != nil {
 					kept += fmt.Sprintf("; %s could not be restored (%v): its earlier content is kept as %s", steps[j].dest, rerr, steps[j].backup)
 					steps[j].backup = "" // keep it
 				}
@@ -522,9 +527,20 @@ func (f *Files) Commit() error {
 		}
 	}
 	for _, st := range steps {
+		if st.folder != nil && st.backup != "" {
+			// The commit is complete: the earlier folder it moved
+			// aside is named so before it is removed, and a run
+			// killed meanwhile leaves one a later run may remove
+			// (".tmpdir.done"; a ".tmpdir.old" is always kept, see
+			// CleanStale).
+			done := strings.TrimSuffix(st.backup, ".old") + ".done"
+			if os.Rename(st.backup, done) == nil {
+				st.backup = done
+			}
+		}
 		st.dropBackup()
 		if st.folder != nil {
-			os.Remove(st.folder.lock)
+			st.folder.lock.release()
 		}
 	}
 	f.staged, f.folders, f.made = nil, nil, nil
@@ -554,6 +570,9 @@ type step struct {
 	folder    *Folder
 	backup    string // the backup of the old file or folder; "" for none
 	installed bool
+	// restoreErr: why a folder's earlier content, moved aside, could
+	// not be put back when the new one failed to go in its place.
+	restoreErr error
 }
 
 // backup keeps what stands at a file's destination beside it, as a hard
@@ -625,7 +644,7 @@ func (f *Files) install(st *step) error {
 	}
 	if err := f.rename(st.tmp, st.dest); err != nil {
 		if st.backup != "" {
-			if os.Rename(st.backup, st.dest) == nil {
+			if st.restoreErr = f.rename(st.backup, st.dest); st.restoreErr == nil {
 				st.backup = ""
 			}
 		}
@@ -635,14 +654,15 @@ func (f *Files) install(st *step) error {
 	return nil
 }
 
-// undo puts back what stood at an installed destination.
-func (st *step) undo() error {
+// undo puts back what stood at an installed destination, with rename
+// (Files.rename).
+func (st *step) undo(rename func(oldpath, newpath string) error) error {
 	if !st.installed {
 		return nil
 	}
 	if st.folder != nil {
 		// The new folder goes back to its temporary name, for Discard.
-		if err := os.Rename(st.dest, st.tmp); err != nil {
+		if err := rename(st.dest, st.tmp); err != nil {
 			return err
 		}
 		st.folder.swapped = false
@@ -652,7 +672,7 @@ func (st *step) undo() error {
 	if st.backup == "" {
 		return nil
 	}
-	if err := os.Rename(st.backup, st.dest); err != nil {
+	if err := rename(st.backup, st.dest); err != nil {
 		return err
 	}
 	st.backup = ""

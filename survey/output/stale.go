@@ -13,23 +13,27 @@ import (
 // stalePart matches what follows "." + an output's name + "." in the
 // names of the temporary entries a run makes beside that output: the
 // process id, a dash, a sequence number, and the kind (see tempName,
-// Files.Folder, Files.backup and install).
-var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.old)$`)
+// Files.Folder, Files.backup, install, Commit and takeLock).
+var stalePart = regexp.MustCompile(`^([0-9]+)-[0-9]+\.(tmp|bak|tmpdir|tmpdir\.old|tmpdir\.done|lock|lock\.old)$`)
 
 // CleanStale removes the temporary entries that killed runs left beside
 // the output dest: only names of the forms this package makes ("." + the
-// output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir" or ".tmpdir.old"),
-// not links, owned by this user, of a process that no longer runs, and
-// unchanged for at least age before now. A backup (".bak") is removed
-// only while it is still the file at dest (the hard link a commit makes
-// first), since otherwise it may be the one copy of the earlier content.
-// A folder (".tmpdir", a staged
-// output folder, or ".tmpdir.old", an earlier output moved aside while
-// one was put in place) is removed only when it holds nothing but
-// regular files, as such a folder does, and ".tmpdir.old" only when dest
-// exists, since with dest missing it may be the one copy of the earlier
-// output. It returns the paths removed; anything it cannot read is left
-// alone.
+// output's name + ".PID-N" + ".tmp", ".bak", ".tmpdir", ".tmpdir.done",
+// ".lock" or ".lock.old"), not links, owned by this user, of a process
+// that no longer runs, and unchanged for at least age before now. A
+// backup (".bak") is removed only while it is still the file at dest (the
+// hard link a commit makes first), since otherwise it may be the one copy
+// of the earlier content. A folder (".tmpdir", a staged output folder, or
+// ".tmpdir.done", an earlier output moved aside by a commit that put the
+// new one in place whole) is removed only when it holds nothing but
+// regular files, as such a folder does. A lock's content written before
+// it is put in place (".lock") and a stale lock moved aside (".lock.old")
+// are removed when they are regular files. An earlier output moved aside
+// by a commit that did not complete (".tmpdir.old": the run was killed
+// during it, or a failed commit could not put it back and said where it
+// is kept) may be the one copy of that output, whether dest is there or
+// not, and is never removed. It returns the paths removed; anything it
+// cannot read is left alone.
 func CleanStale(dest string, age time.Duration, now time.Time) []string {
 	parent, base := filepath.Dir(dest), filepath.Base(dest)
 	ents, err := os.ReadDir(parent)
@@ -56,7 +60,9 @@ func CleanStale(dest string, age time.Duration, now time.Time) []string {
 			continue
 		}
 		switch kind := m[2]; kind {
-		case "tmp":
+		case "tmpdir.old":
+			continue
+		case "tmp", "lock", "lock.old":
 			if !st.Mode().IsRegular() || os.Remove(path) != nil {
 				continue
 			}
@@ -73,11 +79,6 @@ func CleanStale(dest string, age time.Duration, now time.Time) []string {
 		default:
 			if !st.IsDir() || !onlyFiles(path) {
 				continue
-			}
-			if kind == "tmpdir.old" {
-				if _, err := os.Lstat(dest); err != nil {
-					continue
-				}
 			}
 			if err := os.RemoveAll(path); err != nil {
 				continue

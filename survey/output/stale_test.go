@@ -28,8 +28,10 @@ func staleFolder(t *testing.T, path string, files ...string) string {
 
 // Only the temporary entries of ended runs for this very output, named as
 // this package names them, not links, holding nothing but files, older
-// than the age, are removed; an earlier output moved aside stays while
-// its destination is missing.
+// than the age, are removed; an earlier output moved aside by a commit
+// that did not complete (".tmpdir.old") stays, whether its destination is
+// there or not, while one moved aside by a commit that did
+// (".tmpdir.done") goes.
 func TestCleanStale(t *testing.T) {
 	dir := t.TempDir()
 	out := filepath.Join(dir, "ratings")
@@ -41,8 +43,10 @@ func TestCleanStale(t *testing.T) {
 	gone := filepath.Join(dir, "gone") // an output whose folder is missing
 	want := []string{
 		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", ended)), "a.csv", "b.csv"),
-		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.old", ended)), "index.csv"),
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.done", ended)), "index.csv"),
 		file(fmt.Sprintf(".ratings.%d-3.tmp", ended)),
+		file(fmt.Sprintf(".ratings.%d-10.lock", ended)),
+		file(fmt.Sprintf(".ratings.%d-11.lock.old", ended)),
 	}
 	withFolder := staleFolder(t, p(fmt.Sprintf(".ratings.%d-5.tmpdir", ended)), "a.csv")
 	if err := os.Mkdir(filepath.Join(withFolder, "sub"), 0o755); err != nil {
@@ -58,13 +62,15 @@ func TestCleanStale(t *testing.T) {
 	}
 	kept := []string{
 		withFolder, withLink, link, elsewhere,
-		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", os.Getpid())), "a.csv"), // its run goes on
-		staleFolder(t, p(".ratings.x-1.tmpdir")),                                     // no process id
-		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdirs", ended))),               // not a kind made
-		staleFolder(t, p(fmt.Sprintf("ratings.%d-1.tmpdir", ended))),                 // not hidden
-		staleFolder(t, p(fmt.Sprintf(".other.%d-1.tmpdir", ended))),                  // another output's
-		staleFolder(t, p(fmt.Sprintf(".ratings.1.%d-1.tmpdir", ended))),              // that of ratings.1
-		staleFolder(t, p(fmt.Sprintf(".gone.%d-1.tmpdir.old", ended)), "index.csv"),  // the one copy of gone
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdir", os.Getpid())), "a.csv"),   // its run goes on
+		staleFolder(t, p(".ratings.x-1.tmpdir")),                                       // no process id
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-1.tmpdirs", ended))),                 // not a kind made
+		staleFolder(t, p(fmt.Sprintf("ratings.%d-1.tmpdir", ended))),                   // not hidden
+		staleFolder(t, p(fmt.Sprintf(".other.%d-1.tmpdir", ended))),                    // another output's
+		staleFolder(t, p(fmt.Sprintf(".ratings.1.%d-1.tmpdir", ended))),                // that of ratings.1
+		staleFolder(t, p(fmt.Sprintf(".gone.%d-1.tmpdir.old", ended)), "index.csv"),    // the one copy of gone
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-2.tmpdir.old", ended)), "index.csv"), // a commit that did not complete
+		staleFolder(t, p(fmt.Sprintf(".ratings.%d-12.lock", ended))),                   // not a file
 		file(fmt.Sprintf(".ratings.%d-8.tmp.txt", ended)),
 		file(fmt.Sprintf(".ratings.%d-4.bak", ended)), // not the output itself: may be the one copy
 	}
