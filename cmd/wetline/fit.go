@@ -93,8 +93,8 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.IntVar(&f.chains, "chains", gauged.DefaultChains, "number of chains, each with its own seeded source (Bayesian; 2 or more for R̂)")
 	fs.Uint64Var(&f.seed, "seed", fitDefaultSeed, "seed of the chains: the same seed gives the same output (Bayesian)")
 	fs.BoolVar(&f.showUnconverged, "show-unconverged", false, fmt.Sprintf("give the bands even when the chains disagree (R̂ above %g; by default they are withheld)", gauged.RHatLimit))
-	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601, as in the gaugings file; a time that is no gauging's is an error)")
-	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO (ISO 8601; either end may be left open; a date alone as TO includes that day)")
+	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601; a time without an offset is read at --utc-offset, not at a tz column of the file: write one, as 2023-05-27T10:00-06:00, for another; a time that is no gauging's is an error)")
+	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO, from FROM up to, not including, TO, as rating periods run (ISO 8601; either end may be left open; a date alone as TO includes that day, up to the next day's 00:00; a time without an offset is read at --utc-offset)")
 	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default UTC)")
 	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
@@ -628,7 +628,7 @@ func (f *fitFlags) selection(given bool) (gauged.Selection, error) {
 			return sel, usagef("fit: --period to %q: %v", s, err)
 		}
 		if len(s) == len(time.DateOnly) {
-			sel.To = sel.To.Add(24*time.Hour - time.Nanosecond) // the whole of that day
+			sel.To = sel.To.AddDate(0, 0, 1) // the whole of that day: up to the next day's start
 		}
 	}
 	if !sel.From.IsZero() && !sel.To.IsZero() && !sel.To.After(sel.From) {

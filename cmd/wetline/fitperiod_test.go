@@ -55,8 +55,9 @@ func TestFitPeriodFlag(t *testing.T) {
 
 // --utc-offset places the times of --period and --exclude written without
 // an offset, as those of the gaugings: a date is then the local day. At
-// +10:00, the local day 2025-07-31 runs from 2025-07-30T14:00Z up to
-// 2025-07-31T14:00Z, and 09:00 local is 23:00Z the day before.
+// +10:00, the local day 2025-07-31 runs from 2025-07-30T14:00Z up to, not
+// including, 2025-07-31T14:00Z (a date alone as TO ends the period at the
+// next day's start), and 09:00 local is 23:00Z the day before.
 func TestFitSelectionOffset(t *testing.T) {
 	t.Parallel()
 	utc := func(s string) time.Time {
@@ -72,9 +73,9 @@ func TestFitSelectionOffset(t *testing.T) {
 		from, to string
 		exclude  string
 	}{
-		{"UTC", 0, "2025-07-31T00:00:00Z", "2025-07-31T23:59:59.999999999Z", "2025-07-31T09:00:00Z"},
-		{"ten hours east", 10 * time.Hour, "2025-07-30T14:00:00Z", "2025-07-31T13:59:59.999999999Z", "2025-07-30T23:00:00Z"},
-		{"five and a half west", -(5*time.Hour + 30*time.Minute), "2025-07-31T05:30:00Z", "2025-08-01T05:29:59.999999999Z", "2025-07-31T14:30:00Z"},
+		{"UTC", 0, "2025-07-31T00:00:00Z", "2025-08-01T00:00:00Z", "2025-07-31T09:00:00Z"},
+		{"ten hours east", 10 * time.Hour, "2025-07-30T14:00:00Z", "2025-07-31T14:00:00Z", "2025-07-30T23:00:00Z"},
+		{"five and a half west", -(5*time.Hour + 30*time.Minute), "2025-07-31T05:30:00Z", "2025-08-01T05:30:00Z", "2025-07-31T14:30:00Z"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			f := &fitFlags{period: "2025-07-31..2025-07-31", exclude: "2025-07-31T09:00", offset: utcOffset(tc.offset)}
@@ -252,6 +253,93 @@ func TestFlagTimesOneForm(t *testing.T) {
 					t.Errorf("--rating @: %v, %v; want %v", spec.from, errSpec, want)
 				}
 			})
+		}
+	}
+}
+
+// --period FROM..TO runs from FROM up to, not including, TO, as rating
+// periods do: a gauging exactly at the boundary T is fitted in T.. and not
+// in ..T. The file holds invented gaugings with a tz column (MST, MDT); at
+// --utc-offset -07:00 a rating period begins at 2023-06-21T10:00, the time
+// of the gauging after a flood (11:00 MDT). The 25 fitted before it (the
+// one marked exclude left out) give, by weighted least squares in ln Q
+// worked outside the program (weights 1/σ², σ = U/1.96; for each offset B
+// the closed-form weighted regression of ln Q on ln(h − B), B by a 0.1 mm
+// grid refined by ternary search on the weighted sum of squares),
+// A = 7.5584, B = 0.3866 m, C = 1.7590; the 4 from it, A = 9.8636,
+// B = 0.3534 m, C = 1.3799.
+func TestFitPeriodHalfOpen(t *testing.T) {
+	t.Parallel()
+	const in = "testdata/period-boundary-gaugings.csv"
+	const boundary = "2023-06-21T10:00:00-07:00"
+	for _, tc := range []struct {
+		period    string
+		n         int
+		a, b, c   float64
+		boundaryX bool   // the boundary gauging left out
+		says      string // the selection line's period
+	}{
+		{"..2023-06-21T10:00", 25, 7.5584, 0.3866, 1.7590, true, "rating period up to, not including, " + boundary},
+		{"2023-06-21T10:00..", 4, 9.8636, 0.3534, 1.3799, false, "rating period from " + boundary + " on"},
+		{"2020-01-01..2023-06-21T10:00", 25, 7.5584, 0.3866, 1.7590, true,
+			"rating period from 2020-01-01T00:00:00-07:00 up to, not including, " + boundary},
+	} {
+		t.Run(tc.period, func(t *testing.T) {
+			t.Parallel()
+			args := []string{in, "--method", "lsq", "--utc-offset", "-07:00", "--period", tc.period}
+			doc := fitJSON(t, args...)
+			seg := doc["segments"].([]any)[0].(map[string]any)
+			got := []float64{seg["coefficient"].(float64), seg["zero_flow_stage"].(float64), seg["exponent"].(float64)}
+			for i, want := range []float64{tc.a, tc.b, tc.c} {
+				if math.Abs(got[i]-want) > 1e-4*math.Abs(want) {
+					t.Errorf("A, B, C = %.5g, want %.5g, %.5g, %.5g", got, tc.a, tc.b, tc.c)
+					break
+				}
+			}
+			if n := doc["gaugings_fitted"].(float64); int(n) != tc.n {
+				t.Errorf("%v gaugings fitted, want %d", n, tc.n)
+			}
+			for _, g := range doc["gaugings"].([]any) {
+				m := g.(map[string]any)
+				if m["time"] == boundary && m["excluded"] != tc.boundaryX {
+					t.Errorf("the gauging at the boundary: excluded %v (%v), want %v", m["excluded"], m["excluded_reason"], tc.boundaryX)
+				}
+			}
+			out, _, err := fitRun(t, append([]string{"fit"}, args...)...)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if !strings.Contains(out, fmt.Sprintf("Selection: %d of 30 gaugings fitted; %s (", tc.n, tc.says)) {
+				t.Errorf("selection line, want %q:\n%s", tc.says, out[:min(len(out), 600)])
+			}
+		})
+	}
+}
+
+// A time of --exclude without an offset is read at --utc-offset, not at a
+// tz column of the file: the gauging written 2023-05-27T10:00 with tz MDT
+// (−06:00) is 09:00 at −07:00, so 2023-05-27T10:00 is no gauging's time,
+// and written with its offset it is that gauging's. --help says so.
+func TestFitExcludeOffset(t *testing.T) {
+	t.Parallel()
+	const in = "testdata/period-boundary-gaugings.csv"
+	args := []string{"fit", in, "--method", "lsq", "--utc-offset", "-07:00", "--period", "..2023-06-21T10:00"}
+	checkRefused(t, append(args, "--exclude", "2023-05-27T10:00"), 1,
+		"fit: --exclude 2023-05-27T10:00:00-07:00: "+in+": no gauging is at that time (the nearest is at 2023-05-27T09:00:00-07:00)")
+	doc := fitJSON(t, append(args[1:], "--exclude", "2023-05-27T10:00-06:00")...)
+	for _, g := range doc["gaugings"].([]any) {
+		m := g.(map[string]any)
+		if want := m["time"] == "2023-05-27T09:00:00-07:00"; (m["excluded_reason"] == "excluded by time") != want {
+			t.Errorf("gauging at %v: %v", m["time"], m["excluded_reason"])
+		}
+	}
+	if s := doc["selection"].(map[string]any); s["fitted"] != 24.0 || toStrings(s["exclude_times"])[0] != "2023-05-27T09:00:00-07:00" {
+		t.Errorf("selection %v", s)
+	}
+	help, _, _ := runCLI(t, "fit", "--help")
+	for _, want := range []string{"a time without an offset is read at --utc-offset, not at a tz column", "from FROM up to, not including, TO"} {
+		if !strings.Contains(strings.Join(strings.Fields(help), " "), want) {
+			t.Errorf("--help does not say %q", want)
 		}
 	}
 }

@@ -13,8 +13,10 @@ import (
 // and gaugings with zero discharge are left out whatever the selection.
 // The zero value selects every gauging.
 type Selection struct {
-	// From and To bound the rating period, inclusive; a zero time leaves
-	// that end open. A gauging without a time lies outside a bounded period.
+	// From and To bound the rating period, half-open as rating periods
+	// are: from From up to, not including, To, so that a gauging at a
+	// boundary falls in the period it begins. A zero time leaves that end
+	// open. A gauging without a time lies outside a bounded period.
 	From, To time.Time
 	// Exclude lists times of gaugings to leave out (time.Time.Equal).
 	Exclude []time.Time
@@ -55,7 +57,7 @@ func (s Selection) Reason(g Gauging) string {
 		return ReasonZeroDischarge
 	case !s.From.IsZero() && (g.Time.IsZero() || g.Time.Before(s.From)):
 		return ReasonBeforePeriod
-	case !s.To.IsZero() && (g.Time.IsZero() || g.Time.After(s.To)):
+	case !s.To.IsZero() && (g.Time.IsZero() || !g.Time.Before(s.To)):
 		return ReasonAfterPeriod
 	}
 	for _, t := range s.Exclude {

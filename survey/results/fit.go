@@ -593,7 +593,7 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	if s := jsonSelectionOf(r); s.Excluded > 0 || s.From != "" || s.To != "" {
 		p("Selection: %d of %d gaugings fitted", s.Fitted, len(r.Gaugings))
 		if s.From != "" || s.To != "" {
-			p("; rating period %s to %s", orOpen(s.From), orOpen(s.To))
+			p("; rating period %s", PeriodWords(s.From, s.To))
 		}
 		p(" (the others are shown with their departures, marked x)\n")
 	}
@@ -613,12 +613,17 @@ func WriteFitText(w io.Writer, r *gauged.Report) error {
 	return bw.Flush()
 }
 
-// orOpen writes an open end of a period.
-func orOpen(s string) string {
-	if s == "" {
-		return "open"
+// PeriodWords words a rating period of a selection, half-open as rating
+// periods are: "from FROM up to, not including, TO", an open end left
+// unsaid ("" is open).
+func PeriodWords(from, to string) string {
+	switch {
+	case from == "":
+		return "up to, not including, " + to
+	case to == "":
+		return "from " + from + " on"
 	}
-	return s
+	return "from " + from + " up to, not including, " + to
 }
 
 // printer is a formatted writer.
