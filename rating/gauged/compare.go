@@ -14,11 +14,22 @@ type Comparison struct {
 	Residuals []Residual
 	// Datum is the elevation of the gauge's zero used.
 	Datum float64
-	// Outside counts the departures outside their quality bands.
+	// Outside counts the departures outside their quality bands, of the
+	// gaugings summarised: every one after Compare, those a fit's
+	// selection keeps in a Report (see LeftOut).
 	Outside int
 	// MeanLogDeparturePercent is the geometric mean departure of the
-	// gaugings with discharge above zero, 100·(exp(mean ln(Q/Qr)) − 1).
+	// gaugings summarised with discharge above zero,
+	// 100·(exp(mean ln(Q/Qr)) − 1).
 	MeanLogDeparturePercent float64
+	// LeftOut counts the gaugings left out of the summary (Outside,
+	// MeanLogDeparturePercent, Compared): in a Report those the selection
+	// leaves out of the fit and the calibration (Selection.Reason), so
+	// that the summary speaks of the same gaugings; Residuals still holds
+	// every one.
+	LeftOut int
+	// left marks the residuals left out of the summary.
+	left []bool
 	// Warnings are facts a reviewer should see.
 	Warnings []string
 }
@@ -27,8 +38,8 @@ type Comparison struct {
 // with (the others lie beyond the hydraulic rating).
 func (c Comparison) Compared() int {
 	n := 0
-	for _, r := range c.Residuals {
-		if !math.IsNaN(r.Fitted) {
+	for i, r := range c.Residuals {
+		if !c.isLeft(i) && !math.IsNaN(r.Fitted) {
 			n++
 		}
 	}
@@ -63,13 +74,34 @@ func Compare(gs []Gauging, c rating.HydraulicCurve) (Comparison, error) {
 	return cmp, nil
 }
 
+// isLeft reports residual i left out of the summary.
+func (c Comparison) isLeft(i int) bool { return i < len(c.left) && c.left[i] }
+
+// summariseOver summarises the comparison again over the gaugings sel
+// keeps (Selection.Reason is ""), as the fit and the calibration take
+// them, the others counted in LeftOut.
+func (cmp *Comparison) summariseOver(sel Selection) {
+	cmp.left, cmp.LeftOut = make([]bool, len(cmp.Residuals)), 0
+	for i, r := range cmp.Residuals {
+		if sel.Reason(r.Gauging) != "" {
+			cmp.left[i] = true
+			cmp.LeftOut++
+		}
+	}
+	cmp.summarise()
+}
+
 // summarise counts the residuals outside their quality band and sets the
 // mean log departure, in percent, over the residuals compared (NaN when
-// none was).
+// none was), leaving out those marked left out.
 func (cmp *Comparison) summarise() {
 	var sum float64
 	n := 0
-	for _, r := range cmp.Residuals {
+	cmp.Outside = 0
+	for i, r := range cmp.Residuals {
+		if cmp.isLeft(i) {
+			continue
+		}
 		if r.OutsideBand {
 			cmp.Outside++
 		}

@@ -342,6 +342,7 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		if err != nil {
 			return err
 		}
+		cmp.summariseOver(opt.Controls.Selection)
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
 		cal, err := calibrate(gs, *c, opt.ChannelOnly, opt.Controls.Selection)
@@ -361,6 +362,7 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 	case ref.tab != nil:
 		r.HydraulicSource = "table " + ref.tab.Name()
 		cmp := CompareTable(gs, ref.tab)
+		cmp.summariseOver(opt.Controls.Selection)
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
 		for _, p := range ref.tab.table.Points {

@@ -875,8 +875,12 @@ func writeGaugingRows(p printer, r *gauged.Report) {
 		p("  x %s\n", s)
 	}
 	if c := r.Comparison; c != nil {
-		p("Against the hydraulic rating: geometric mean departure %s %%, %d of %d compared outside their quality bands\n",
-			fixed(c.MeanLogDeparturePercent, 1), c.Outside, c.Compared())
+		which := ""
+		if c.LeftOut > 0 {
+			which = fmt.Sprintf(", the gaugings selected only, as the fit and the calibration take them (%d left out, marked x)", c.LeftOut)
+		}
+		p("Against the hydraulic rating%s: geometric mean departure %s %%, %d of %d compared outside their quality bands\n",
+			which, fixed(c.MeanLogDeparturePercent, 1), c.Outside, c.Compared())
 	}
 }
 

@@ -163,6 +163,9 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	if c := r.Comparison; c != nil {
 		add("geometric mean departure from the hydraulic rating", num("0.0", c.MeanLogDeparturePercent), "%")
 		add("gaugings outside their quality bands (hydraulic rating)", c.Outside, "")
+		if c.LeftOut > 0 {
+			add("hydraulic rating compared over", fmt.Sprintf("the gaugings selected only, as the fit and the calibration take them: %d compared, %d left out", c.Compared(), c.LeftOut), "")
+		}
 	}
 	if c := r.Calibration; c != nil {
 		which := "every subsection's n"

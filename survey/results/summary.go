@@ -104,7 +104,11 @@ func WriteFitSummary(w io.Writer, r *gauged.Report, path string) error {
 		fmt.Fprintf(bw, "  uncertainty convention: %s\n", gauged.UncertaintyConvention())
 	}
 	if c := r.Comparison; c != nil {
-		fmt.Fprintf(bw, "  against the hydraulic rating: %d of %d compared outside their quality bands\n", c.Outside, c.Compared())
+		which := ""
+		if c.LeftOut > 0 {
+			which = fmt.Sprintf(" (the gaugings selected only, %d left out)", c.LeftOut)
+		}
+		fmt.Fprintf(bw, "  against the hydraulic rating%s: %d of %d compared outside their quality bands\n", which, c.Outside, c.Compared())
 	}
 	if c := r.Calibration; c != nil {
 		fmt.Fprintf(bw, "  best factor on n: %.3f\n", c.Factor)
