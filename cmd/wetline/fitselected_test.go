@@ -98,3 +98,28 @@ func TestFitComparisonSelected(t *testing.T) {
 		t.Errorf("workbook: compared over %q, want %q", v, want)
 	}
 }
+
+// The summary sheet of a fit workbook states the selection, as the text's
+// selection line and the JSON's selection do: the count fitted, the rating
+// period and the times excluded, at --utc-offset.
+func TestFitWorkbookSelection(t *testing.T) {
+	t.Parallel()
+	book := filepath.Join(t.TempDir(), "fit.xlsx")
+	args := []string{"fit", "testdata/period-boundary-gaugings.csv", "--method", "lsq", "--utc-offset", "-07:00",
+		"--period", "2020-02-01..2023-06-21T10:00", "--exclude", "2021-05-06T11:00,2022-04-08T14:30", "-o", book}
+	if _, errs, code := runCLI(t, args...); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	items := fitSummaryItems(t, book)
+	// 26 gaugings before the boundary, less the first (before the period),
+	// the one marked exclude and the two listed: 22 of 30.
+	for item, want := range map[string]string{
+		"selection":      "22 of 30 gaugings fitted",
+		"rating period":  "from 2020-02-01T00:00:00-07:00 up to, not including, 2023-06-21T10:00:00-07:00",
+		"times excluded": "2021-05-06T11:00:00-07:00, 2022-04-08T14:30:00-07:00",
+	} {
+		if !strings.HasPrefix(items[item], want) {
+			t.Errorf("summary %q: %q, want %q", item, items[item], want)
+		}
+	}
+}

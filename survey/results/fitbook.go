@@ -155,6 +155,15 @@ func writeFitSummary(b *workbook.Book, r *gauged.Report) error {
 	add("uncertainty convention", gauged.UncertaintyConvention(), "")
 	add("gaugings", len(r.Gaugings), "")
 	add("times in", zoneName(zoneOf(r.UTCOffset)), "")
+	if s := jsonSelectionOf(r); s.Excluded > 0 || s.From != "" || s.To != "" { // as the text's selection line
+		add("selection", fmt.Sprintf("%d of %d gaugings fitted (the others are on the gaugings sheet with their departures)", s.Fitted, len(r.Gaugings)), "")
+		if s.From != "" || s.To != "" {
+			add("rating period", PeriodWords(s.From, s.To), "")
+		}
+		if len(s.Exclude) > 0 {
+			add("times excluded", strings.Join(s.Exclude, ", "), "")
+		}
+	}
 	if f := r.Fit; f != nil {
 		fitSummaryItems(add, num, r, f)
 	} else {
