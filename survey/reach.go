@@ -967,6 +967,16 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 	return out, nil
 }
 
+// ZeroFlowNote is the input note of a boundary rating that Boundary
+// reads log-linearly in (h − e), e the stage of its dry first row (see
+// DryFootNote), naming that row; "" for a rating read linearly.
+func (b BoundaryRating) ZeroFlowNote() string {
+	if len(b.Points) < 2 || b.Points[0].Discharge != 0 || len(b.Rows) == 0 {
+		return ""
+	}
+	return DryFootNote((&ParseError{File: b.File, Sheet: b.Sheet, Row: b.Rows[0]}).Position(), b.Points[0].Stage, "")
+}
+
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or
 // a workbook sheet (sheet "" reads a sheet named rating when the workbook
 // has one, as a results workbook of rate does, else the first): any table

@@ -176,6 +176,7 @@ func (f *compareFlags) ratings(e *env, fs *flagSet, a, b string, format string) 
 		if note != "" {
 			notes = append(notes, note)
 		}
+		notes = append(notes, rt.Notes...)
 		if n := len(rt.Periods); n != 1 {
 			return fmt.Errorf("compare: %s holds %d rating periods (a %s column): compare takes one rating per file", in.path, n, survey.ColRatingValidFrom)
 		}

@@ -256,6 +256,7 @@ func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided
 	if note != "" {
 		hf.notes = append(hf.notes, note)
 	}
+	hf.notes = append(hf.notes, rt.Notes...)
 	if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
 		return nil, "", nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
 			hf.cmd, s, spec.path, survey.ColRatingValidFrom)
