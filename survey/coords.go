@@ -220,6 +220,21 @@ func PinWords() []string {
 	return out
 }
 
+// leftPinWords and rightPinWords are PinWords of the left pin and of the
+// right pin.
+func leftPinWords() []string  { return sidePinWords(leftBank) }
+func rightPinWords() []string { return sidePinWords(rightBank) }
+
+func sidePinWords(side bankSide) []string {
+	var out []string
+	for _, p := range pinMarks() {
+		if p.side == side {
+			out = append(out, p.word)
+		}
+	}
+	return out
+}
+
 // readPinMark reports whether a mark is an end pin's (one of PinWords)
 // and the side it names.
 func readPinMark(mark string) (bankSide, bool) {

@@ -100,7 +100,7 @@ var (
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
-	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
+	ErrMarkQuality      = errors.New("quality must be " + rating.QualityChoices())
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 	ErrFlowLengthValue  = errors.New("a flow length must be more than zero (blank: the distance to the next section)")
 	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
