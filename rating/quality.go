@@ -30,16 +30,47 @@ func QualityWords() []string {
 	return append([]string(nil), qualityWords[1:]...)
 }
 
-// ErrQuality is returned for an unknown quality word.
-var ErrQuality = errors.New("quality must be excellent, good, fair or poor (or E, G, F, P, or blank)")
+// QualityLetters returns the one-letter forms of the quality words that
+// ParseQuality takes as well, best first: E, G, F, P (the first letter of
+// each of QualityWords, upper case; read in any case). The slice is new on
+// every call.
+func QualityLetters() []string {
+	var out []string
+	for _, w := range qualityWords[1:] {
+		out = append(out, strings.ToUpper(w[:1]))
+	}
+	return out
+}
 
-// ParseQuality reads a quality word: excellent, good, fair, poor, their
-// first letters, or blank for Unrated; any case. Other text is ErrQuality.
+// AcceptedQualityWords returns every word ParseQuality takes besides a
+// blank: QualityWords, then QualityLetters. The slice is new on every
+// call.
+func AcceptedQualityWords() []string {
+	return append(QualityWords(), QualityLetters()...)
+}
+
+// QualityChoices says in prose what a quality cell may hold, from the
+// lists ParseQuality reads: "excellent, good, fair or poor (or E, G, F,
+// P, or blank)".
+func QualityChoices() string {
+	w := QualityWords()
+	return strings.Join(w[:len(w)-1], ", ") + " or " + w[len(w)-1] + " (or " + strings.Join(QualityLetters(), ", ") + ", or blank)"
+}
+
+// ErrQuality is returned for an unknown quality word.
+var ErrQuality = errors.New("quality must be " + QualityChoices())
+
+// ParseQuality reads a quality word: one of QualityWords, one of
+// QualityLetters, or blank for Unrated; any case. Other text is
+// ErrQuality.
 func ParseQuality(s string) (Quality, error) {
 	w := strings.ToLower(strings.TrimSpace(s))
-	for q, word := range qualityWords {
-		if w == word || (len(w) == 1 && word != "" && word[0] == w[0]) {
-			return Quality(q), nil
+	if w == "" {
+		return Unrated, nil
+	}
+	for i, word := range qualityWords[1:] {
+		if w == word || w == word[:1] { // QualityLetters, lower case
+			return Quality(i + 1), nil
 		}
 	}
 	return Unrated, ErrQuality

@@ -195,13 +195,14 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 
 // pinMarks is the one list of the words read as an end pin's mark:
 // MarkLeftPin and MarkRightPin first, then the forms field crews write
-// (common practice): lpin, l pin, left end pin, and the right's alike.
-// They are matched as bank marks are (see readPinMark).
+// (common practice): lpin (so l pin), lp, left end pin, and the right's
+// alike. They are matched as bank marks are (see readPinMark); none is a
+// bank word (BankWords), in either form.
 func pinMarks() []bankMark {
 	return []bankMark{
 		{MarkLeftPin, leftBank}, {MarkRightPin, rightBank},
-		{"lpin", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
-		{"rpin", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
+		{"lpin", leftBank}, {"lp", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
+		{"rpin", rightBank}, {"rp", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
 	}
 }
 
@@ -215,6 +216,21 @@ func PinWords() []string {
 	var out []string
 	for _, p := range pinMarks() {
 		out = append(out, p.word)
+	}
+	return out
+}
+
+// leftPinWords and rightPinWords are PinWords of the left pin and of the
+// right pin.
+func leftPinWords() []string  { return sidePinWords(leftBank) }
+func rightPinWords() []string { return sidePinWords(rightBank) }
+
+func sidePinWords(side bankSide) []string {
+	var out []string
+	for _, p := range pinMarks() {
+		if p.side == side {
+			out = append(out, p.word)
+		}
 	}
 	return out
 }
@@ -243,15 +259,46 @@ func pinLike(mark string) bool {
 	return slices.Contains(words, "pin") || slices.Contains(words, "lpin") || slices.Contains(words, "rpin")
 }
 
+// sideLike reports a short mark that is no pin word nor bank word but
+// may be meant as the mark of one end of the line: its letters and digits
+// (at most 6) begin with l or r and hold a p (LP1, R.P.2, LEP, RHP), as
+// a crew abbreviates a left or right pin.
+func sideLike(mark string) bool {
+	if _, ok := readPinMark(mark); ok {
+		return false
+	}
+	if _, ok := readBankMark(mark); ok {
+		return false
+	}
+	var c []rune
+	for _, r := range bankWord(mark) {
+		switch {
+		case 'a' <= r && r <= 'z', '0' <= r && r <= '9':
+			c = append(c, r)
+		case r != ' ':
+			return false
+		}
+	}
+	return len(c) >= 2 && len(c) <= 6 && (c[0] == 'l' || c[0] == 'r') && slices.Contains(c[1:], 'p')
+}
+
 // pinLikeWarnings warns, at its cell, of each mark of a coordinate
 // survey that looks like an end pin's (see pinLike) but is not read as
-// one, the section line being the principal axis of the points.
-func (r *sectionReader) pinLikeWarnings() {
+// one, the section line being the principal axis of the points. When
+// the left end is the first point surveyed (LeftFromOrder), a mark that
+// may name an end's side (see sideLike) is warned of too, since the
+// survey may then be mirrored.
+func (r *sectionReader) pinLikeWarnings(pr Projection) {
+	order := pr.Left == LeftFromOrder
+	side := ""
+	if order {
+		side = fmt.Sprintf(", and the left end is the first point surveyed (row %d), so a survey begun on the right bank is mirrored", r.records[0].Row)
+	}
 	for i, m := range r.sv.Marks {
-		if pinLike(m) {
+		if pinLike(m) || order && sideLike(m) {
 			r.sv.Warnings = append(r.sv.Warnings, r.t.At(r.records[i], r.cm, fmt.Errorf(
-				"not read as an end pin (the pin words are %s): the section line is the principal axis of the points; write one of them if the point is an end pin",
-				strings.Join(PinWords(), ", "))).Error())
+				"not read as an end pin (the pin words are %s): the section line is the principal axis of the points%s; write one of them if the point is an end pin",
+				strings.Join(PinWords(), ", "), side)).Error())
 		}
 	}
 }
@@ -438,7 +485,7 @@ func (r *sectionReader) project(opt CoordinateOptions) error {
 	}
 	zeroRoundOff(pr.Offsets, st)
 	if pr.Line == LineFromPrinAx {
-		r.pinLikeWarnings()
+		r.pinLikeWarnings(pr)
 	}
 	pr.Tolerance = opt.OffsetTolerance
 	if !(pr.Tolerance > 0) {

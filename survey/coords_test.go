@@ -389,7 +389,7 @@ func TestCoordinateSurveyOnTheLine(t *testing.T) {
 }
 
 // The end pins are read under the forms crews write (LPIN, L PIN,
-// left-pin, left_pin, L.PIN, left end pin, and the right's alike): the
+// left-pin, left_pin, L.PIN, LP, left end pin, and the right's alike): the
 // section line runs through them and they say the left bank, so a survey
 // written from the right pin has its stations from the left pin. A mark
 // that is no pin word leaves the principal axis. The data are invented:
@@ -403,7 +403,8 @@ func TestPinWords(t *testing.T) {
 	}{
 		{"left pin", "right pin", true}, {"LPIN", "RPIN", true}, {"L PIN", "R PIN", true}, {"left-pin", "right-pin", true},
 		{"left_pin", "right_pin", true}, {"L.PIN", "R.PIN", true}, {"left end pin", "right end pin", true}, {"Left End-Pin", "R. End Pin", true},
-		{"pin", "pin", false}, {"LP", "RP", false},
+		{"LP", "RP", true}, {"L.P.", "R.P.", true}, {"lp", "rp", true},
+		{"pin", "pin", false}, {"LP1", "RP1", false},
 	} {
 		in := fmt.Sprintf("easting,northing,elevation,mark\n40,0,3,%s\n30,0.2,1,\n20,-0.1,0,\n10,0.1,1,\n0,0,3,%s\n", tc.right, tc.left)
 		sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
@@ -445,6 +446,60 @@ func TestPinLikeWarned(t *testing.T) {
 		}
 		if n != tc.warned || n > 0 && !strings.Contains(strings.Join(sv.Warnings, "\n"), `xs.csv:2:4: mark "`+tc.left+`": not read as an end pin`) {
 			t.Errorf("%s/%s: warnings %q, want %d pin warning(s)", tc.left, tc.right, sv.Warnings, tc.warned)
+		}
+	}
+}
+
+// No pin word is a bank word, in either of the forms marks are matched
+// in (with their spaces or without them), so no mark reads as both.
+func TestPinWordsAreNoBankWords(t *testing.T) {
+	t.Parallel()
+	for _, p := range PinWords() {
+		if _, ok := readBankMark(p); ok {
+			t.Errorf("pin word %q reads as a bank mark", p)
+		}
+		if side, ok := readPinMark(p); !ok || side == eitherBank {
+			t.Errorf("pin word %q reads as side %v, %v", p, side, ok)
+		}
+	}
+	for _, b := range BankWords() {
+		if _, ok := readPinMark(b); ok {
+			t.Errorf("bank word %q reads as a pin", b)
+		}
+	}
+}
+
+// A survey without pin words whose left end falls to the first point
+// surveyed warns, at the cell, of each short mark that may name an end's
+// side (LP1, R.P.2, RHP): the survey run from the right bank is mirrored
+// unless the pins are read. Marks naming nothing of the kind are not
+// warned of. The data are invented: the survey runs east from the
+// right-hand end.
+func TestSideLikeMarkWarnedWhenLeftIsFirstPoint(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		first, last string
+		warned      int
+	}{
+		{"RP1", "LP1", 2}, {"R.P.2", "GRD", 1}, {"RHP", "LHP", 2}, {"rebar", "lip of bank", 0}, {"GRD", "thalweg", 0},
+	} {
+		in := fmt.Sprintf("easting,northing,elevation,mark\n0,0,3,%s\n10,0.1,1,\n20,-0.1,0,\n30,0.2,1,\n40,0,3,%s\n", tc.first, tc.last)
+		sv, err := ParseSection(strings.NewReader(in), "xs.csv", SectionOptions{})
+		if err != nil {
+			t.Errorf("%s/%s: %v", tc.first, tc.last, err)
+			continue
+		}
+		if sv.Projection.Left != LeftFromOrder {
+			t.Errorf("%s/%s: left from %q, want the survey order", tc.first, tc.last, sv.Projection.Left)
+		}
+		n := 0
+		for _, w := range sv.Warnings {
+			if strings.Contains(w, "not read as an end pin") && strings.Contains(w, "the left end is the first point surveyed (row 2)") {
+				n++
+			}
+		}
+		if n != tc.warned || n > 0 && !strings.Contains(strings.Join(sv.Warnings, "\n"), `xs.csv:2:4: mark "`+tc.first+`": not read as an end pin`) {
+			t.Errorf("%s/%s: warnings %q, want %d", tc.first, tc.last, sv.Warnings, tc.warned)
 		}
 	}
 }

@@ -32,20 +32,18 @@ type RatingTableOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).
 	Sheet string
 	// HasZeroFlow and ZeroFlow give the gauge height of zero flow e
-	// (length unit) of every rating read.
+	// (length unit) of every rating read. Without them a rating whose
+	// first row has no flow takes its e from the table itself, as a
+	// hydraulic rating written from a section begins with its dry foot:
+	// the stage of the last of its leading rows without flow (see
+	// DryFoot), said in an input note (RatingTables.Notes); a rating with
+	// neither is read linearly in stage between rows, with a warning.
 	HasZeroFlow bool
 	ZeroFlow    float64
 	// ZeroFlowFlag is the flag that gives the gauge height of zero flow,
 	// named in the warning of a column of zero flows ("" for
 	// "--zero-flow").
 	ZeroFlowFlag string
-	// ZeroFlowAtDryFoot takes the gauge height of zero flow of a rating
-	// whose first row has no flow from the table itself, as a hydraulic
-	// rating written from a section begins with its dry foot: the stage
-	// of the last of its leading rows without flow (see DryFoot). No
-	// warning of the first row's lack of flow is then given. HasZeroFlow,
-	// when set, is used instead.
-	ZeroFlowAtDryFoot bool
 	// HasHighGauging and HighGauging give the gauge height of the highest
 	// gauging (length unit); without them it is taken from an
 	// extrapolated column when there is one.
@@ -73,6 +71,9 @@ type RatingTables struct {
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
 	Warnings []string
+	// Notes are input notes, lines with their positions: the gauge
+	// height of zero flow a rating took from its dry first row.
+	Notes []string
 	// Units is what the stage and discharge headers say of the unit
 	// system ("stage (ft)", "discharge (ft3/s)"); the caller resolves it
 	// against the units asked for (UnitNote.Resolve). Stages, ZeroFlow,
@@ -236,7 +237,7 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrEmpty}
 	}
 	for i, g := range groups {
-		p, err := g.period(t, cs, cq, cx >= 0, opt, &out.Warnings)
+		p, err := g.period(t, cs, cq, cx >= 0, opt, &out.Warnings, &out.Notes)
 		if err != nil {
 			errs = append(errs, err)
 			continue
@@ -260,7 +261,7 @@ type ratingGroup struct {
 }
 
 // period makes the group's rating period, or the error at its row.
-func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOptions, warn *[]string) (gauged.Period, *ParseError) {
+func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOptions, warn, notes *[]string) (gauged.Period, *ParseError) {
 	name := ratingName(t)
 	if !g.from.IsZero() {
 		// The time as the table or the caller wrote it: at its offset.
@@ -293,14 +294,41 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 		}
 		return gauged.Period{}, t.At(rec, col, re.Err)
 	}
-	if e, ok := DryFoot(g.points); ok && opt.ZeroFlowAtDryFoot && !rt.HasZeroFlow {
-		rt.HasZeroFlow, rt.ZeroFlow = true, e
+	flag := opt.ZeroFlowFlag
+	if flag == "" {
+		flag = "--zero-flow"
 	}
-	if len(g.points) > 0 && g.points[0].Discharge == 0 && !rt.HasZeroFlow {
+	if e, ok := DryFoot(g.points); ok && !rt.HasZeroFlow {
+		rt.HasZeroFlow, rt.ZeroFlow = true, e
+		k := 0
+		for k+1 < len(g.points) && g.points[k+1].Discharge == 0 {
+			k++
+		}
+		*notes = append(*notes, DryFootNote(where(t, g.recs[k].Row), e, flag))
+	}
+	switch {
+	case rt.HasZeroFlow:
+	case len(g.points) > 0 && g.points[0].Discharge == 0:
 		*warn = append(*warn, fmt.Sprintf("%s: the first row has no flow at stage %g: give the gauge height of zero flow to interpolate log-linearly in (h − e)",
 			where(t, g.recs[0].Row), g.points[0].Stage))
+	case len(g.points) > 0:
+		*warn = append(*warn, fmt.Sprintf("%s: the table has no row without flow and %s is not given, so it is read linearly in stage between rows; "+
+			"give %s E, its gauge height of zero flow, to read it log-linearly in (h − e)", name, flag, flag))
 	}
 	return gauged.Period{From: g.from, Rating: rt}, nil
+}
+
+// DryFootNote is the input note of a rating table that takes its gauge
+// height of zero flow e from its dry first row (see DryFoot), at the
+// position at (the row), flag naming the flag not given that would give
+// e ("" when there is none).
+func DryFootNote(at string, e float64, flag string) string {
+	given := ""
+	if flag != "" {
+		given = " (" + flag + " not given)"
+	}
+	return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's dry first row%s: the table is read log-linearly in (h − e) between rows",
+		at, strconv.FormatFloat(e, 'g', -1, 64), given)
 }
 
 // DryFoot returns the gauge height of zero flow a rating table gives

@@ -33,7 +33,8 @@ func TestParseRatingTables(t *testing.T) {
 	if !rt.HasHighGauging || rt.HighGauging != 2.6 || !rt.HasZeroFlow || rt.Name != "fit.csv" || len(rt.Points) != 4 {
 		t.Errorf("rating %+v", rt)
 	}
-	// Periods from a valid_from column; elevations turned into gauge heights.
+	// Periods from a valid_from column; elevations turned into gauge
+	// heights; each period's dry first row gives its zero flow.
 	const periods = "valid_from,stage,discharge\n" +
 		"2023-01-01T00:00Z,100.5,0\n,101.0,2\n,102.0,9\n" +
 		"2024-06-01T00:00+10:00,100.6,0\n,101.2,3\n"
@@ -42,8 +43,9 @@ func TestParseRatingTables(t *testing.T) {
 		t.Fatal(err)
 	}
 	if len(rs.Periods) != 2 || !rs.Periods[1].From.Equal(time.Date(2024, 5, 31, 14, 0, 0, 0, time.UTC)) ||
-		rs.Periods[0].Rating.Points[1].Stage != 1 || len(rs.Periods[1].Rating.Points) != 2 || len(rs.Warnings) != 2 {
-		t.Errorf("periods %+v warnings %q", rs.Periods, rs.Warnings)
+		rs.Periods[0].Rating.Points[1].Stage != 1 || len(rs.Periods[1].Rating.Points) != 2 || len(rs.Warnings) != 0 || len(rs.Notes) != 2 ||
+		rs.Periods[0].Rating.ZeroFlow != 0.5 || rs.Periods[1].Rating.ZeroFlow != rating.DecimalDifference(100.6, 100) {
+		t.Errorf("periods %+v warnings %q notes %q", rs.Periods, rs.Warnings, rs.Notes)
 	}
 	if _, err := (gauged.History{Periods: rs.Periods}).Compile(); err != nil {
 		t.Errorf("periods read do not compile: %v", err)
@@ -266,31 +268,44 @@ func TestDryFoot(t *testing.T) {
 	}
 }
 
-// With ZeroFlowAtDryFoot a hydraulic rating written from a section (dry
-// rows at its foot) is read with its own gauge height of zero flow, and
-// no warning asks for one; without it the warning is given and no zero
-// flow is set. A zero flow given (HasZeroFlow) is kept.
+// One rule reads every rating table: e from the zero flow given, else a
+// hydraulic rating written from a section (dry rows at its foot) is read
+// with its own gauge height of zero flow, the stage of its last dry row,
+// said in an input note naming that row and the flag, with no warning; a
+// table with neither is read linearly, with a warning naming the flag.
 func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 	const table = "stage,discharge\n99.5,0\n100.0,0\n100.5,1.2\n101.0,4.8\n"
+	const wet = "stage,discharge\n100.5,1.2\n101.0,4.8\n"
 	for _, tc := range []struct {
-		name  string
-		opt   RatingTableOptions
-		has   bool
-		e     float64
-		warns int
+		name, table string
+		opt         RatingTableOptions
+		has         bool
+		e           float64
+		warning     string
+		note        string
 	}{
-		{"at the dry foot", RatingTableOptions{Datum: 100, ZeroFlowAtDryFoot: true}, true, 0, 0},
-		{"not asked", RatingTableOptions{Datum: 100}, false, 0, 1},
-		{"given", RatingTableOptions{Datum: 100, ZeroFlowAtDryFoot: true, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, 0},
+		{"at the dry foot", table, RatingTableOptions{Datum: 100}, true, 0, "",
+			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's dry first row (--zero-flow not given): the table is read log-linearly in (h − e) between rows"},
+		{"at the dry foot, flag named", table, RatingTableOptions{Datum: 100, ZeroFlowFlag: "--hydraulic-zero-flow"}, true, 0, "", "(--hydraulic-zero-flow not given)"},
+		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, "", ""},
+		{"no dry row", wet, RatingTableOptions{Datum: 100}, false, 0,
+			"hydraulic.csv: the table has no row without flow and --zero-flow is not given, so it is read linearly in stage between rows; give --zero-flow E", ""},
+		{"no dry row, given", wet, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			rs, err := ParseRatingTables(strings.NewReader(table), "hydraulic.csv", tc.opt)
+			rs, err := ParseRatingTables(strings.NewReader(tc.table), "hydraulic.csv", tc.opt)
 			if err != nil {
 				t.Fatal(err)
 			}
 			rt := rs.Periods[0].Rating
-			if rt.HasZeroFlow != tc.has || (tc.has && rt.ZeroFlow != tc.e) || len(rs.Warnings) != tc.warns {
-				t.Errorf("zero flow %v at %g, warnings %q; want %v at %g and %d warning(s)", rt.HasZeroFlow, rt.ZeroFlow, rs.Warnings, tc.has, tc.e, tc.warns)
+			if rt.HasZeroFlow != tc.has || (tc.has && rt.ZeroFlow != tc.e) {
+				t.Errorf("zero flow %v at %g; want %v at %g", rt.HasZeroFlow, rt.ZeroFlow, tc.has, tc.e)
+			}
+			if tc.warning == "" && len(rs.Warnings) > 0 || tc.warning != "" && (len(rs.Warnings) != 1 || !strings.Contains(rs.Warnings[0], tc.warning)) {
+				t.Errorf("warnings %q, want %q", rs.Warnings, tc.warning)
+			}
+			if tc.note == "" && len(rs.Notes) > 0 || tc.note != "" && (len(rs.Notes) != 1 || !strings.Contains(rs.Notes[0], tc.note)) {
+				t.Errorf("notes %q, want %q", rs.Notes, tc.note)
 			}
 			if _, err := rt.Compile(); err != nil {
 				t.Errorf("the rating read does not compile: %v", err)

@@ -100,7 +100,7 @@ var (
 	ErrDistanceBlank    = errors.New("distance is blank")
 	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
 	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
-	ErrMarkQuality      = fmt.Errorf("quality must be one of %s, or blank", strings.Join(rating.QualityWords(), ", "))
+	ErrMarkQuality      = errors.New("quality must be " + rating.QualityChoices())
 	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
 	ErrFlowLengthValue  = errors.New("a flow length must be more than zero (blank: the distance to the next section)")
 	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
@@ -965,6 +965,16 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 			"to read it log-linearly in (h − e)", Position(b.File, b.Sheet))}
 	}
 	return out, nil
+}
+
+// ZeroFlowNote is the input note of a boundary rating that Boundary
+// reads log-linearly in (h − e), e the stage of its dry first row (see
+// DryFootNote), naming that row; "" for a rating read linearly.
+func (b BoundaryRating) ZeroFlowNote() string {
+	if len(b.Points) < 2 || b.Points[0].Discharge != 0 || len(b.Rows) == 0 {
+		return ""
+	}
+	return DryFootNote((&ParseError{File: b.File, Sheet: b.Sheet, Row: b.Rows[0]}).Position(), b.Points[0].Stage, "")
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or

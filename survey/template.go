@@ -341,14 +341,13 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 	lengthHelp := func(path string) string {
 		return "length of the flow path along the " + path + " to the next section downstream; blank: the distance between the sections"
 	}
-	quality := listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", "))
 	return []workbook.InputColumn{
 		{Column: workbook.Column{Name: ReachColSection, Format: workbook.FormatText, Width: 12}, Help: "section id, e.g. XS-1"},
 		{Column: workbook.Column{Name: ReachColSurvey, Format: workbook.FormatText, Width: 16}, Help: "sheet (or file) holding the section's survey"},
 		{Column: workbook.Column{Name: ReachColDistance, Unit: L, Format: "0.0##", Width: 14}, Rule: decimalRule(-MaxCoordinate, MaxCoordinate, true, coord), Help: "distance downstream from the upstream-most section, along the channel"},
 		{Column: workbook.Column{Name: ReachColWSLeft, Unit: L, Format: "0.000#", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the left bank"},
 		{Column: workbook.Column{Name: ReachColWSRight, Unit: L, Format: "0.000#", Width: 14}, Rule: elevationRule(L, "a water-surface elevation on the survey's datum"), Help: "water-surface elevation from the high-water marks on the right bank"},
-		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: quality, Help: "how well the marks define the water surface"},
+		{Column: workbook.Column{Name: ReachColQuality, Format: workbook.FormatText, Width: 12}, Rule: qualityRule(), Help: "how well the marks define the water surface"},
 		{Column: workbook.Column{Name: ReachColLeftLength, Unit: L, Format: "0.0##", Width: 16}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("left overbank")},
 		{Column: workbook.Column{Name: ReachColChannelLength, Unit: L, Format: "0.0##", Width: 19}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("main channel")},
 		{Column: workbook.Column{Name: ReachColRightLength, Unit: L, Format: "0.0##", Width: 17}, Rule: decimalRule(0, MaxCoordinate, true, length), Help: lengthHelp("right overbank")},
@@ -356,6 +355,28 @@ func reachColumns(u rating.Units) []workbook.InputColumn {
 			Help: "blank or none for an open channel; bridge, culvert, weir or dam for a section at a structure: backwater refuses to compute flow through it and slopearea warns of it"},
 		{Column: workbook.Column{Name: ColNote, Format: workbook.FormatText, Width: 36}},
 	}
+}
+
+// qualityRule is the drop-down list of a quality column: every word
+// rating.ParseQuality takes (rating.AcceptedQualityWords), others refused.
+func qualityRule() *workbook.Rule {
+	return listRule(rating.AcceptedQualityWords(), true, "quality: "+rating.QualityChoices())
+}
+
+// quoted writes words as the instructions list them: each in single
+// quotes, joined by commas ('lb', 'rb'). Every list of the words a reader
+// takes is written so, and only those: a test reads them back.
+func quoted(words []string) string {
+	q := make([]string, len(words))
+	for i, w := range words {
+		q[i] = "'" + w + "'"
+	}
+	return strings.Join(q, ", ")
+}
+
+// qualityText is what the instructions say a quality cell takes.
+func qualityText() string {
+	return quoted(rating.QualityWords()) + " (or " + quoted(rating.QualityLetters()) + "; any case; blank for none)"
 }
 
 // Bounds of the gaugings sheet's uncertainty rule. The reader takes
@@ -371,7 +392,7 @@ func gaugingColumns(u rating.Units) []workbook.InputColumn {
 		{Column: workbook.Column{Name: ColGaugingStage, Unit: L, Format: "0.000#", Width: 12}, Rule: elevationRule(L, "a gauge height"), Help: "mean gauge height during the measurement"},
 		{Column: workbook.Column{Name: ColGaugingDischarge, Unit: Q, Format: "0.000#", Width: 17}, Rule: decimalRule(0, 1e8, true,
 			fmt.Sprintf("a discharge in %s, zero or more", Q)), Help: "measured discharge"},
-		{Column: workbook.Column{Name: ColGaugingQuality, Format: workbook.FormatText, Width: 12}, Rule: listRule(rating.QualityWords(), true, "quality: one of "+strings.Join(rating.QualityWords(), ", ")), Help: "measurement grade"},
+		{Column: workbook.Column{Name: ColGaugingQuality, Format: workbook.FormatText, Width: 12}, Rule: qualityRule(), Help: "measurement grade"},
 		{Column: workbook.Column{Name: ColGaugingUncertainty, Unit: "%", Format: "0.0##", Width: 15}, Rule: decimalRule(templateOpenEnd, MaxUncertaintyPercent-templateOpenEnd, true,
 			fmt.Sprintf("a percentage above 0 and below %g", MaxUncertaintyPercent)),
 			Help: "expanded uncertainty of the discharge at the 95 % level, in percent; blank: the band of the quality grade"},
@@ -382,40 +403,6 @@ func gaugingColumns(u rating.Units) []workbook.InputColumn {
 
 // instructionSheet writes the instructions: what goes where, in which units.
 func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) error {
-	u := opt.Units
-	L, Q := u.Length(), u.Discharge()
-	lines := [][2]string{
-		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet (or by grid coordinates on the coordinates sheet), " +
-			"the reach and its high-water marks, and discharge measurements. " +
-			"Fill the cream cells; keep the header rows as they are. Blank rows are skipped; extra columns to the right are kept but not read."},
-		{"site block", fmt.Sprintf("The first %d rows of each cross-section sheet, the coordinate sheet and the gaugings sheet name the site: %s. "+
-			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points or gaugings below them.",
-			len(MetaKeys()), strings.Join(MetaKeys(), ", "), SectionHeaderRow)},
-		{"units", fmt.Sprintf("Lengths, stations and elevations in %s; discharge in %s; Manning's n as usual (the same number in every unit system). "+
-			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: name it in the site block.", L, Q)},
-		{strings.Join(names, ", "), "One sheet per cross-section, points from the left end to the right end looking downstream. " +
-			"station: distance from the left pin; it never decreases (no overhangs). elevation: ground elevation. " +
-			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
-			"mark: 'bank' on exactly the two points that bound the main channel, or another bank word (" + strings.Join(BankWords()[1:], ", ") +
-			"; in any case; a word naming a side must be on that side); other labels (thalweg, pin, water edge, ...) are kept as labels. " +
-			"Add sheets by copying one; the sheet name is the section's name."},
-		{FieldSheetCoordinates, "A cross-section surveyed by total station or GNSS: easting, northing and elevation of each point, in the order surveyed. " +
-			"wetline projects the points onto the section line to make stations. mark: '" + MarkLeftPin + "' and '" + MarkRightPin + "' on the end pins " +
-			"(left and right looking downstream) fix the line and its left end; without them the line is fitted through the points and the left end is the first point surveyed (or told by the flow direction given to wetline). " +
-			"n: Manning's n from this point to the next point surveyed; 'bank' as on the XS sheets. Rename the sheet to the section's name."},
-		{FieldSheetReach, "One row per section of a reach. section: its id; survey: the sheet (or file) with its survey; " +
-			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
-			"on each bank from the high-water marks (for a slope-area reach); quality: " + strings.Join(rating.QualityWords(), ", ") + ". " +
-			"left_length, channel_length, right_length: lengths of the flow paths along the left overbank, the channel and the right overbank to the next section " +
-			"(blank: the distance between the sections). structure: blank, " + strings.Join(OpenChannelWords(), ", ") + " for an open channel; " + strings.Join(StructureWords(), ", ") +
-			" for a section at a structure (flow through a structure is refused, not approximated)."},
-		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm, local time; state the zone in a note); " +
-			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade (" + strings.Join(rating.QualityWords(), ", ") + "); " +
-			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +
-			"exclude: any text leaves the gauging out of rating fits and is shown as the reason; blank or " + strings.Join(KeepWords(), ", ") + " (any case) keeps it."},
-		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
-		{"caution", rating.Caution},
-	}
 	s, err := b.Table(FieldSheetInstructions, []workbook.Column{{Name: "topic", Width: 18}, {Name: "what to enter", Width: 110}})
 	if err != nil {
 		return err
@@ -428,12 +415,57 @@ func instructionSheet(b *workbook.Book, opt TemplateOptions, names []string) err
 	if err != nil {
 		return err
 	}
-	for _, l := range lines {
+	for _, l := range instructionLines(opt, names) {
 		if err := s.Row(workbook.Styled{Style: ls, Value: l[0]}, workbook.Styled{Style: ws, Value: l[1]}); err != nil {
 			return err
 		}
 	}
 	return s.Flush()
+}
+
+// instructionLines are the topics of the instructions sheet and what each
+// says. The words each column takes are written from the readers' own
+// lists (BankWords, PinWords, rating.QualityWords and QualityLetters,
+// StructureWords, OpenChannelWords, KeepWords), each word quoted (see
+// quoted); the cross-section sheets' topic is names joined.
+func instructionLines(opt TemplateOptions, names []string) [][2]string {
+	u := opt.Units
+	L, Q := u.Length(), u.Discharge()
+	return [][2]string{
+		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet (or by grid coordinates on the coordinates sheet), " +
+			"the reach and its high-water marks, and discharge measurements. " +
+			"Fill the cream cells; keep the header rows as they are. Blank rows are skipped; extra columns to the right are kept but not read."},
+		{"site block", fmt.Sprintf("The first %d rows of each cross-section sheet, the coordinate sheet and the gaugings sheet name the site: %s. "+
+			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points or gaugings below them.",
+			len(MetaKeys()), strings.Join(MetaKeys(), ", "), SectionHeaderRow)},
+		{"units", fmt.Sprintf("Lengths, stations and elevations in %s; discharge in %s; Manning's n as usual (the same number in every unit system). "+
+			"Write numbers with a decimal point. Elevations and gauge heights refer to one datum: name it in the site block.", L, Q)},
+		{strings.Join(names, ", "), "One sheet per cross-section, points from the left end to the right end looking downstream. " +
+			"station: distance from the left pin; it never decreases (no overhangs). elevation: ground elevation. " +
+			"n: Manning's n of the ground from this point to the next (a blank repeats the value above). " +
+			"mark: 'bank' on exactly the two points that bound the main channel, or another bank word (" + quoted(BankWords()[1:]) +
+			"; in any case; a word naming a side must be on that side); other labels (thalweg, pin, water edge, ...) are kept as labels. " +
+			"Add sheets by copying one; the sheet name is the section's name."},
+		{FieldSheetCoordinates, "A cross-section surveyed by total station or GNSS: easting, northing and elevation of each point, in the order surveyed. " +
+			"wetline projects the points onto the section line to make stations. mark: the end pins (left and right looking downstream) fix the line and its left end, " +
+			"the left one marked " + quoted(leftPinWords()) + ", the right one " + quoted(rightPinWords()) + " (in any case; dots, spaces, hyphens and underscores aside); " +
+			"without them the line is fitted through the points and the left end is the first point surveyed (or told by the flow direction given to wetline). " +
+			"n: Manning's n from this point to the next point surveyed; 'bank' as on the XS sheets. Rename the sheet to the section's name."},
+		{FieldSheetReach, "One row per section of a reach. section: its id; survey: the sheet (or file) with its survey; " +
+			"distance: distance downstream from the upstream-most section along the channel; ws_left and ws_right: water-surface elevation " +
+			"on each bank from the high-water marks (for a slope-area reach); quality: " + qualityText() + ". " +
+			"left_length, channel_length, right_length: lengths of the flow paths along the left overbank, the channel and the right overbank to the next section " +
+			"(blank: the distance between the sections). structure: blank, " + quoted(OpenChannelWords()) + " for an open channel; " + quoted(StructureWords()) +
+			" for a section at a structure (any case; flow through a structure is refused, not approximated)."},
+		{FieldSheetGaugings, "One row per discharge measurement. time: date and time (yyyy-mm-dd hh:mm). A time without a UTC offset is read at the offset wetline is given (--utc-offset ±HH:MM), else as UTC. " +
+			"To give each row its own zone (standard and daylight time), add a column headed " + ColTimeZone + " (read, unlike other extra columns) and fill it on every row: " +
+			"a UTC offset (+10:00, -0500, Z) or one of " + strings.Join(ZoneAbbreviations(), ", ") + ". " +
+			"stage: mean gauge height; discharge: measured discharge; quality: the measurement's grade, " + qualityText() + "; " +
+			fmt.Sprintf("uncertainty: the expanded uncertainty at the 95 %% level in percent, above 0 and below %g (blank: the grade's band); ", MaxUncertaintyPercent) +
+			"exclude: any text leaves the gauging out of rating fits and is shown as the reason; blank or " + quoted(KeepWords()) + " (any case) keeps it."},
+		{"using it", "wetline rate field.xlsx --sheet XS-1 --slope 0.001 -o rating.xlsx rates the section on sheet XS-1."},
+		{"caution", rating.Caution},
+	}
 }
 
 // WriteSurveySheet writes a survey as a table sheet with the columns of a

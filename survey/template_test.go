@@ -178,7 +178,7 @@ func TestTemplateSheets(t *testing.T) {
 			for _, dv := range dvs {
 				switch {
 				case dv.Type == "list":
-					if dv.Formula1 != `"excellent,good,fair,poor"` || !dv.ShowErrorMessage {
+					if dv.Formula1 != `"excellent,good,fair,poor,E,G,F,P"` || !dv.ShowErrorMessage {
 						t.Errorf("quality list %q, error alert %v", dv.Formula1, dv.ShowErrorMessage)
 					}
 				case strings.HasPrefix(dv.Sqref, "E"):
@@ -987,7 +987,7 @@ func TestTemplateExcludeKeepWords(t *testing.T) {
 	}
 	f.Close()
 	for _, w := range survey.KeepWords() {
-		if !strings.Contains(text, " "+w) {
+		if !strings.Contains(text, "'"+w+"'") {
 			t.Errorf("instructions of %s do not name %q: %q", survey.FieldSheetGaugings, w, text)
 		}
 	}

@@ -314,6 +314,9 @@ func backwater(path, sheet string, qs []float64, b reach.Boundary, bfile string,
 		if n := unitsAssumed(survey.Position(br.File, br.Sheet), br.Units, unitsGiven || rt.UnitsNamed()); n != "" {
 			notes = append(notes, n)
 		}
+		if n := br.ZeroFlowNote(); n != "" {
+			notes = append(notes, n)
+		}
 	}
 	secs, err := rt.ReachSections(opt.Backwater.Units)
 	if err != nil {

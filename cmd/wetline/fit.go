@@ -169,18 +169,16 @@ func (f *fitFlags) analyze(path string, opt gauged.Options) (*gauged.Report, err
 	}
 	var table *gauged.TableRating
 	var tableWarnings []string
-	var tableNote string
+	var tableNotes []string
 	if f.hydraulicTable != "" {
 		zero := hydraulicZero{given: f.fs != nil && f.fs.Changed("hydraulic-zero-flow"), e: f.hydraulicZero}
-		if table, tableWarnings, tableNote, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, zero, &d); err != nil {
+		if table, tableWarnings, tableNotes, err = readHydraulicTable(f.hydraulicTable, f.hydraulicSheet, f.datum, zero, &d); err != nil {
 			return nil, err
 		}
 	}
 	opt.Units = d.Units
 	in := fitInputs{inputs: []string{path}, warnings: append([]string(nil), gs.Warnings...), site: gs.Site}
-	if tableNote != "" {
-		in.notes = append(in.notes, tableNote)
-	}
+	in.notes = append(in.notes, tableNotes...)
 	ropt := rating.Options{Slope: f.slope, Units: d.Units, Geometry: f.geometry()}
 	if f.section != "" {
 		p, err := f.prepareIn(f.section, &d)
@@ -269,38 +267,37 @@ type hydraulicZero struct {
 // zero.e when given, else the stage of the table's dry foot
 // (survey.DryFoot); a table with neither is read linearly in stage,
 // with a warning. The units of its headers must be those decided, or
-// decide them (see unitsDecided.takeTable, which gives the input note
-// returned). A zero-flow stage at or above a
+// decide them (see unitsDecided.takeTable, which gives the first input
+// note returned; a dry foot's e is another). A zero-flow stage at or above a
 // row with flow is an error naming the flag.
-func readHydraulicTable(path, sheet string, datum float64, zero hydraulicZero, units *unitsDecided) (*gauged.TableRating, []string, string, error) {
-	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, ZeroFlowAtDryFoot: true, HasZeroFlow: zero.given, ZeroFlow: zero.e,
+func readHydraulicTable(path, sheet string, datum float64, zero hydraulicZero, units *unitsDecided) (*gauged.TableRating, []string, []string, error) {
+	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, HasZeroFlow: zero.given, ZeroFlow: zero.e,
 		ZeroFlowFlag: "--hydraulic-zero-flow"}
 	rt, err := survey.ReadRatingTables(path, opt)
 	if zero.given && errors.Is(err, gauged.ErrZeroFlowAbove) {
-		return nil, nil, "", fmt.Errorf("fit: --hydraulic-zero-flow %s: %w", strconv.FormatFloat(zero.e, 'g', -1, 64), err)
+		return nil, nil, nil, fmt.Errorf("fit: --hydraulic-zero-flow %s: %w", strconv.FormatFloat(zero.e, 'g', -1, 64), err)
 	}
 	if err != nil {
-		return nil, nil, "", err
+		return nil, nil, nil, err
 	}
 	note, err := units.takeTable(rt.Units, path)
 	if err != nil {
-		return nil, nil, "", err
+		return nil, nil, nil, err
 	}
 	if len(rt.Periods) != 1 || rt.Periods[0].Rating == nil {
-		return nil, nil, "", fmt.Errorf("%s: a hydraulic rating is one table, not %d rating periods", path, len(rt.Periods))
+		return nil, nil, nil, fmt.Errorf("%s: a hydraulic rating is one table, not %d rating periods", path, len(rt.Periods))
 	}
 	tab := *rt.Periods[0].Rating
 	tab.HasHighGauging = false
 	c, err := tab.Compile()
 	if err != nil {
-		return nil, nil, "", fmt.Errorf("%s: %w", path, err)
+		return nil, nil, nil, fmt.Errorf("%s: %w", path, err)
 	}
-	warnings := rt.Warnings
-	if !tab.HasZeroFlow {
-		warnings = append(warnings, fmt.Sprintf("%s: the table has no row without flow and --hydraulic-zero-flow is not given, so it is read linearly in stage between rows; "+
-			"give --hydraulic-zero-flow E, its gauge height of zero flow, to read it log-linearly in (h − e) as shifts, record and compare do with --zero-flow", path))
+	var notes []string
+	if note != "" {
+		notes = append(notes, note)
 	}
-	return c, warnings, note, nil
+	return c, rt.Warnings, append(notes, rt.Notes...), nil
 }
 
 // options checks the flags against each other and turns them into report

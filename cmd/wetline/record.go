@@ -53,7 +53,7 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
 		"or none@TIME for a period without a rating; repeat for each rating period")
 	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first visible sheet)")
-	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows)")
+	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows; default: the stage of a table's dry first row, else linear, with a warning)")
 	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating, where the periods without a rating (none@TIME) may be left out (default: from an extrapolated column)")
 	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
@@ -256,6 +256,7 @@ func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided
 	if note != "" {
 		hf.notes = append(hf.notes, note)
 	}
+	hf.notes = append(hf.notes, rt.Notes...)
 	if spec.hasFrom && (len(rt.Periods) != 1 || !rt.Periods[0].From.Equal(spec.from)) {
 		return nil, "", nil, usagef("%s: --rating %s: %s has a %s column, so its ratings carry their own times: give it without @TIME",
 			hf.cmd, s, spec.path, survey.ColRatingValidFrom)

@@ -450,18 +450,25 @@ func TestRecordStageSite(t *testing.T) {
 
 // TestRecordTableFoot: a rating whose first row is dry at the gauge height
 // of zero flow is read on the power law of the rows above it between that
-// row and the first row with flow, once --zero-flow gives e; without e it
-// stays linear there, with the warning asking for e.
+// row and the first row with flow: with the e --zero-flow gives, else with
+// the stage of the dry first row as e, which an input note says; a table
+// with a row of flow first and no --zero-flow is read linearly, with the
+// warning asking for e.
 //
 // Rows (0.2, 0), (0.7, 2), (1.2, 8) with e = 0.2: above 0.7 the law is
 // Q = 2·((h − 0.2)/0.5)² (b = ln 4/ln 2 = 2), so at 0.45 m Q = 2·0.25 = 0.5
-// (by hand); linear from (0.2, 0) to (0.7, 2) gives 1.
+// (by hand); linear from (0.2, 0) to (0.7, 2) gives 1. Rows (0.45, 0.5),
+// (1.2, 8) read linearly give 0.5 + 7.5·0.5/0.75 = 5.5 at 0.95 m (by hand).
 func TestRecordTableFoot(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
 	table := filepath.Join(dir, "foot.csv")
+	wet := filepath.Join(dir, "wet.csv")
 	stages := filepath.Join(dir, "stage.csv")
 	if err := os.WriteFile(table, []byte("stage,discharge\n0.2,0\n0.7,2\n1.2,8\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(wet, []byte("stage,discharge\n0.45,0.5\n1.2,8\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	if err := os.WriteFile(stages, []byte("time,stage\n2024-10-01T00:00,0.45\n2024-10-01T00:15,0.95\n"), 0o644); err != nil {
@@ -469,17 +476,19 @@ func TestRecordTableFoot(t *testing.T) {
 	}
 	const tol = 1e-5 // six significant digits in the CSV
 	for _, tc := range []struct {
-		name     string
-		extra    []string
-		q        []float64
-		warnings bool
+		name, table string
+		extra       []string
+		q           []float64
+		warning     string
+		note        bool
 	}{
-		{"e given", []string{"--zero-flow", "0.2"}, []float64{0.5, 4.5}, false},
-		{"e not given", nil, []float64{1, 5}, true},
+		{"e given", table, []string{"--zero-flow", "0.2"}, []float64{0.5, 4.5}, "", false},
+		{"e from the dry first row", table, nil, []float64{0.5, 4.5}, "", true},
+		{"no dry row, e not given", wet, nil, []float64{0.5, 5.5}, "the table has no row without flow and --zero-flow is not given, so it is read linearly", false},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
-			args := append([]string{"record", stages, "--rating", table, "--unit", "--format", "csv"}, tc.extra...)
+			args := append([]string{"record", stages, "--rating", tc.table, "--unit", "--format", "csv"}, tc.extra...)
 			out, errs, code := runCLI(t, args...)
 			if code != 0 {
 				t.Fatalf("exit %d: %s", code, errs)
@@ -495,8 +504,13 @@ func TestRecordTableFoot(t *testing.T) {
 					t.Errorf("row %q: discharge %s, want %g", lines[i+1], f[4], want)
 				}
 			}
-			if warned := strings.Contains(errs, "give the gauge height of zero flow"); warned != tc.warnings {
-				t.Errorf("warning of the dry first row: %v, want %v: %s", warned, tc.warnings, errs)
+			if warned := strings.Contains(errs, "give the gauge height of zero flow") || strings.Contains(errs, "read linearly"); warned != (tc.warning != "") ||
+				tc.warning != "" && !strings.Contains(errs, tc.warning) {
+				t.Errorf("warning %q wanted: %s", tc.warning, errs)
+			}
+			note := "input: " + table + ":2: the gauge height of zero flow e = 0.2 is the stage of the table's dry first row (--zero-flow not given)"
+			if got := strings.Contains(errs, note); got != tc.note {
+				t.Errorf("note of the dry first row: %v, want %v: %s", got, tc.note, errs)
 			}
 		})
 	}
