@@ -201,8 +201,8 @@ func sectionLine(t *Table, rows []Record, e, n []float64, marks []string, opt Co
 func pinMarks() []bankMark {
 	return []bankMark{
 		{MarkLeftPin, leftBank}, {MarkRightPin, rightBank},
-		{"lpin", leftBank}, {"lp", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
-		{"rpin", rightBank}, {"rp", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
+		{"lpin", leftBank}, {"left end pin", leftBank}, {"l end pin", leftBank},
+		{"rpin", rightBank}, {"right end pin", rightBank}, {"r end pin", rightBank},
 	}
 }
 

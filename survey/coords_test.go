@@ -389,7 +389,8 @@ func TestCoordinateSurveyOnTheLine(t *testing.T) {
 }
 
 // The end pins are read under the forms crews write (LPIN, L PIN,
-// left-pin, left_pin, L.PIN, LP, left end pin, and the right's alike): the
+// left-pin, left_pin, L.PIN, left end pin, and the right's alike; not LP
+// and RP, since RP is a surveyor's reference point): the
 // section line runs through them and they say the left bank, so a survey
 // written from the right pin has its stations from the left pin. A mark
 // that is no pin word leaves the principal axis. The data are invented:
@@ -403,7 +404,7 @@ func TestPinWords(t *testing.T) {
 	}{
 		{"left pin", "right pin", true}, {"LPIN", "RPIN", true}, {"L PIN", "R PIN", true}, {"left-pin", "right-pin", true},
 		{"left_pin", "right_pin", true}, {"L.PIN", "R.PIN", true}, {"left end pin", "right end pin", true}, {"Left End-Pin", "R. End Pin", true},
-		{"LP", "RP", true}, {"L.P.", "R.P.", true}, {"lp", "rp", true},
+		{"L.P.", "R.P.", false}, {"LP", "RP", false}, {"lp", "rp", false},
 		{"pin", "pin", false}, {"LP1", "RP1", false},
 	} {
 		in := fmt.Sprintf("easting,northing,elevation,mark\n40,0,3,%s\n30,0.2,1,\n20,-0.1,0,\n10,0.1,1,\n0,0,3,%s\n", tc.right, tc.left)
