@@ -3,6 +3,7 @@ package plotting
 import (
 	"io"
 	"math"
+	"strings"
 	"testing"
 
 	"wetline/rating"
@@ -57,5 +58,29 @@ func TestFitTableRedrawn(t *testing.T) {
 	plain := tableRatingPlot(RatingFigures{Table: tab, ZeroFlow: nan})
 	if len(plain.Hydraulic.Points) != len(rows) || len(plain.Fitted.Points)+len(plain.Band) != 0 {
 		t.Errorf("without its fit rows: curve of %d points, fitted %d, band %d", len(plain.Hydraulic.Points), len(plain.Fitted.Points), len(plain.Band))
+	}
+}
+
+// A plain rating table marking its rows above the highest gauging (an
+// extrapolated column, no basis or bands: Kind blank as the reader reads
+// it) is drawn with its extrapolated rows dashed but titled and labelled
+// as a rating table, never as a fitted rating.
+func TestPlainTableExtrapolatedNotFitted(t *testing.T) {
+	nan := math.NaN()
+	rows := []gauged.ControlRow{ // an invented rating, its top row above the gaugings
+		{Stage: 0.25, Discharge: 0, ParametricLower: nan, ParametricUpper: nan, TotalLower: nan, TotalUpper: nan},
+		{Stage: 1, Discharge: 5.3, ParametricLower: nan, ParametricUpper: nan, TotalLower: nan, TotalUpper: nan},
+		{Stage: 3, Discharge: 47, Basis: gauged.FitAboveGaugings, ParametricLower: nan, ParametricUpper: nan, TotalLower: nan, TotalUpper: nan},
+	}
+	tab := rating.Table{Name: "r", Units: rating.SI, Slope: nan}
+	for _, r := range rows {
+		tab.Rows = append(tab.Rows, rating.Row{Stage: r.Stage, Discharge: r.Discharge})
+	}
+	rp := tableRatingPlot(RatingFigures{Table: tab, ZeroFlow: 0.25, Fit: rows})
+	if rp.What != "" || strings.Contains(rp.Subtitle, "fitted") || rp.Fitted.Label != "rating table" {
+		t.Errorf("what %q, subtitle %q, curve %q; want a rating table", rp.What, rp.Subtitle, rp.Fitted.Label)
+	}
+	if n := len(rp.Fitted.Points); n == 0 || !rp.Fitted.Points[n-1].Extrapolated || rp.Fitted.Points[0].Extrapolated {
+		t.Errorf("points %v: want the top row alone extrapolated", rp.Fitted.Points)
 	}
 }

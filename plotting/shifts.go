@@ -5,6 +5,7 @@ import (
 	"io"
 	"math"
 	"sort"
+	"strings"
 	"time"
 
 	"gonum.org/v1/plot"
@@ -40,26 +41,132 @@ func DrawShifts(c *gauged.ShiftCheck, site, base string, size Size) ([]rating.Fi
 	return set.figs, set.warnings, nil
 }
 
-// shiftFigure is the page of a shift figure.
-func shiftFigure(c *gauged.ShiftCheck, site, what string) figure {
-	measured := 0
+// shiftFigure is the page of a shift figure: the subtitle counts the
+// gaugings used that have a measured shift apart from the excluded ones
+// (drawn hollow and grey), and the foot notes the excluded gaugings left
+// off the axes.
+func shiftFigure(c *gauged.ShiftCheck, site, what string, clipped []gauged.GaugingShift) figure {
+	measured, excluded := 0, 0
 	for _, g := range c.Gaugings {
-		if finite(g.Shift) {
+		switch {
+		case g.Excluded:
+			excluded++
+		case finite(g.Shift):
 			measured++
 		}
 	}
+	used, excl := rating.Counted(len(c.Gaugings), "gauging", "gaugings"), ""
+	if excluded > 0 {
+		used, excl = rating.Counted(len(c.Gaugings)-excluded, "gauging used", "gaugings used"), fmt.Sprintf(", %d excluded (hollow)", excluded)
+	}
+	foot := []string{}
+	if n := clippedNote(clipped, c.UTCOffset, names(c.Units).length); n != "" {
+		foot = append(foot, n)
+	}
 	return figure{
 		title: titleOf(site, "", what),
-		subtitle: fmt.Sprintf("%d of %s with a measured shift, %s; shift = what is added to the gauge height for the rating to pass through the gauging",
-			measured, rating.Counted(len(c.Gaugings), "gauging", "gaugings"), rating.Counted(len(c.Visits), "visit", "visits")),
-		foot:      []string{DefaultCaution},
+		subtitle: fmt.Sprintf("%d of %s with a measured shift%s, %s; shift = what is added to the gauge height for the rating to pass through the gauging",
+			measured, used, excl, rating.Counted(len(c.Visits), "visit", "visits")),
+		foot:      append(foot, DefaultCaution),
 		footColor: colCaution,
 	}
 }
 
+// clippedNote words the note of the excluded gaugings beyond a shift
+// figure's axes, which are set by the gaugings used: how many, and the
+// first few by time and shift ("" for none).
+func clippedNote(gs []gauged.GaugingShift, off time.Duration, unit string) string {
+	if len(gs) == 0 {
+		return ""
+	}
+	z := time.UTC
+	if off != 0 {
+		z = time.FixedZone(offsetName(off), int(off/time.Second))
+	}
+	var parts []string
+	for i, g := range gs {
+		if i == maxClippedNamed {
+			parts = append(parts, fmt.Sprintf("%d more", len(gs)-i))
+			break
+		}
+		parts = append(parts, fmt.Sprintf("%s, shift %s %s", g.Time.In(z).Format("2006-01-02 15:04"), fmtSigned(g.Shift, 3), unit))
+	}
+	return fmt.Sprintf("Beyond the axes, not drawn: %s (%s)", rating.Counted(len(gs), "excluded gauging", "excluded gaugings"), strings.Join(parts, "; "))
+}
+
+// maxClippedNamed is how many excluded gaugings beyond the axes the note
+// names one by one.
+const maxClippedNamed = 3
+
+// excludedMarks splits the excluded gaugings of a figure, at their (x, y),
+// into those within the axes' ranges, to be drawn, and those beyond them.
+func excludedMarks(p *plot.Plot, gs []gauged.GaugingShift, at func(gauged.GaugingShift) (float64, float64)) ([]gaugingPoint, []gauged.GaugingShift) {
+	var in []gaugingPoint
+	var out []gauged.GaugingShift
+	for _, g := range gs {
+		x, y := at(g)
+		if !finite(x, y) {
+			continue
+		}
+		if x < p.X.Min || x > p.X.Max || y < p.Y.Min || y > p.Y.Max {
+			out = append(out, g)
+			continue
+		}
+		in = append(in, gaugingPoint{x, y, g.Quality})
+	}
+	return in, out
+}
+
+// addExcludedPoints draws excluded gaugings hollow and grey, in the shape
+// of their quality, with one legend entry, keeping the axes' ranges.
+func addExcludedPoints(p *plot.Plot, pts []gaugingPoint) {
+	x0, x1, y0, y1 := p.X.Min, p.X.Max, p.Y.Min, p.Y.Max
+	defer func() { p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = x0, x1, y0, y1 }()
+	labelled := false
+	for _, q := range qualityOrder {
+		var xy plotter.XYs
+		for _, g := range pts {
+			if g.q == q || (q == rating.Unrated && g.q.String() == "") {
+				xy = append(xy, plotter.XY{X: g.x, Y: g.y})
+			}
+		}
+		if len(xy) == 0 {
+			continue
+		}
+		s, err := plotter.NewScatter(xy)
+		if err != nil {
+			continue
+		}
+		s.GlyphStyle = hollowStyle(q)
+		p.Add(s)
+		if !labelled {
+			p.Legend.Add(excludedLabel, s)
+			labelled = true
+		}
+	}
+}
+
+// excludedLabel is the legend entry of the excluded gaugings.
+const excludedLabel = "excluded"
+
 // shiftTimeFigure draws measured and applied shifts against time.
 func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) (Result, error) {
 	var res Result
+	p, fig, err := shiftTimePanel(c, site)
+	if err != nil {
+		return res, err
+	}
+	err = render(w, size, fig, func(cv draw.Canvas) error {
+		p.Draw(cv)
+		return nil
+	})
+	return res, err
+}
+
+// shiftTimePanel lays out the shift-against-time figure. Its time axis
+// spans every gauging, its shift axis the gaugings used; the excluded ones are drawn hollow where they fall
+// within them and noted at the foot where they do not.
+func shiftTimePanel(c *gauged.ShiftCheck, site string) (*plot.Plot, figure, error) {
 	un := names(c.Units)
 	z := time.UTC
 	if c.UTCOffset != 0 {
@@ -70,10 +177,18 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	p.Add(zeroLine{})
 	var pts []gaugingPoint
 	var outside, applied plotter.XYs
+	var excluded []gauged.GaugingShift
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, g := range c.Gaugings {
 		t := float64(g.Time.Unix())
-		lo, hi = math.Min(lo, t), math.Max(hi, t)
+		if len(c.History.Shifts) > 0 && finite(g.Applied) && finite(g.Shift) {
+			applied = append(applied, plotter.XY{X: t, Y: g.Applied})
+		}
+		lo, hi = math.Min(lo, t), math.Max(hi, t) // time spans every gauging
+		if g.Excluded {
+			excluded = append(excluded, g)
+			continue
+		}
 		if !finite(g.Shift) {
 			continue
 		}
@@ -81,12 +196,9 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 		if g.Outside {
 			outside = append(outside, plotter.XY{X: t, Y: g.Shift})
 		}
-		if len(c.History.Shifts) > 0 && finite(g.Applied) {
-			applied = append(applied, plotter.XY{X: t, Y: g.Applied})
-		}
 	}
 	if len(pts) == 0 {
-		return res, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+		return nil, figure{}, fmt.Errorf("%w: no gauging used has a measured shift", ErrNoData)
 	}
 	if len(applied) > 0 {
 		sort.Slice(applied, func(i, j int) bool { return applied[i].X < applied[j].X })
@@ -114,15 +226,13 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 		p.X.Min, p.X.Max = lo-86400, hi+86400
 	}
 	padAxis(&p.Y, shiftPad)
+	drawn, clipped := excludedMarks(p, excluded, func(g gauged.GaugingShift) (float64, float64) { return float64(g.Time.Unix()), g.Shift })
+	addExcludedPoints(p, drawn)
 	p.X.Tick.Marker = timeTicks{z}
 	p.Y.Tick.Marker = linearTicks{}
 	p.Legend.Top = true
-	legendCorner(p, append(gaugingXYs(pts), applied...))
-	err := render(w, size, shiftFigure(c, site, "shifts against time"), func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
-	})
-	return res, err
+	legendCorner(p, append(append(gaugingXYs(pts), gaugingXYs(drawn)...), applied...))
+	return p, shiftFigure(c, site, "shifts against time", clipped), nil
 }
 
 // shiftBreaks returns the times (Unix seconds) at which the applied shift
@@ -191,14 +301,35 @@ func diagramLine(d gauged.ShiftDiagram, lo, hi float64) plotter.XYs {
 // shiftStageFigure draws measured shifts against stage with the diagrams.
 func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) (Result, error) {
 	var res Result
+	p, fig, err := shiftStagePanel(c, site)
+	if err != nil {
+		return res, err
+	}
+	err = render(w, size, fig, func(cv draw.Canvas) error {
+		p.Draw(cv)
+		return nil
+	})
+	return res, err
+}
+
+// shiftStagePanel lays out the shift-against-stage figure. Its axes are
+// set by the gaugings used and the diagrams; the excluded gaugings are
+// drawn hollow where they fall within them and noted at the foot where
+// they do not.
+func shiftStagePanel(c *gauged.ShiftCheck, site string) (*plot.Plot, figure, error) {
 	un := names(c.Units)
 	p := newPanel("Shift against stage", "Shift, "+un.length, "Gauge height, "+un.length)
 	addGrid(p)
 	p.Add(zeroLine{vertical: true})
 	var pts []gaugingPoint
 	var outside plotter.XYs
+	var excluded []gauged.GaugingShift
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, g := range c.Gaugings {
+		if g.Excluded {
+			excluded = append(excluded, g)
+			continue
+		}
 		if !finite(g.Shift, g.Stage) {
 			continue
 		}
@@ -209,7 +340,7 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 		}
 	}
 	if len(pts) == 0 {
-		return res, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+		return nil, figure{}, fmt.Errorf("%w: no gauging used has a measured shift", ErrNoData)
 	}
 	for _, d := range c.History.Shifts {
 		for _, q := range d.Points {
@@ -225,15 +356,13 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 	ringPoints(p, outside, "outside its band on the base rating")
 	p.Y.Min, p.Y.Max = lo, hi
 	padAxis(&p.X, shiftPad)
+	drawn, clipped := excludedMarks(p, excluded, func(g gauged.GaugingShift) (float64, float64) { return g.Shift, g.Stage })
+	addExcludedPoints(p, drawn)
 	p.X.Tick.Marker = linearTicks{}
 	p.Y.Tick.Marker = linearTicks{}
 	p.Legend.Top, p.Legend.Left = true, true
-	legendCorner(p, gaugingXYs(pts))
-	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
-	})
-	return res, err
+	legendCorner(p, append(gaugingXYs(pts), gaugingXYs(drawn)...))
+	return p, shiftFigure(c, site, "shifts against stage", clipped), nil
 }
 
 // addDiagrams draws the applied shift diagrams across the stages lo to hi

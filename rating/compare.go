@@ -51,6 +51,21 @@ type SectionComparison struct {
 	// DatumA and DatumB are the datums the surveys name (their site
 	// keys; "" when not named), set by SetDatums.
 	DatumA, DatumB string
+	// SiteA and SiteB are what each survey says of its site (its date
+	// above all), as read; set by SetSites.
+	SiteA, SiteB Site
+}
+
+// SetSites records what surveys A and B say of their site and their
+// datums (SetDatums). When both give a survey date and the dates differ,
+// the date of Provenance.Site is cleared, as a datum is: the comparison
+// was surveyed on neither date alone, and SiteA and SiteB carry both.
+func (c *SectionComparison) SetSites(a, b Site) {
+	c.SiteA, c.SiteB = a, b
+	if x, y := strings.TrimSpace(a.Surveyed), strings.TrimSpace(b.Surveyed); x != "" && y != "" && x != y {
+		c.Provenance.Site.Surveyed = ""
+	}
+	c.SetDatums(a.Datum, b.Datum)
 }
 
 // SetDatums records the datums surveys A and B name (free text, "" when

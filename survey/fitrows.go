@@ -23,6 +23,25 @@ const (
 	ColFitUpper = "upper_95"
 )
 
+// fitOnlyColumns are the columns only a rating fit's table has: its basis
+// and its bands. A rating table may have an extrapolated column of its own
+// (rows above the highest gauging), so that column alone does not make a
+// table a fit's.
+func fitOnlyColumns() []string {
+	return []string{ColFitBasis, ColFitParametricLower, ColFitParametricUpper, ColFitTotalLower, ColFitTotalUpper, ColFitLower, ColFitUpper}
+}
+
+// IsFitTable reports whether t has a column only a rating fit's table has
+// (fitOnlyColumns: basis or a band bound).
+func IsFitTable(t *Table) bool {
+	for _, c := range fitOnlyColumns() {
+		if t.Column(c) >= 0 {
+			return true
+		}
+	}
+	return false
+}
+
 // ErrFitBasis is the cause of a basis cell that names no basis a fit
 // writes.
 var ErrFitBasis = errors.New("not a basis of a fitted row")

@@ -47,8 +47,9 @@ var ErrRatingStageOrder = errors.New("stages of a rating table must increase fro
 // is read.
 var ErrRatingPeriods = errors.New("one rating per file is read; give each period a file of its own")
 
-// KindFitted is the Kind of a rating table read with a rating fit's
-// columns (basis or extrapolated).
+// KindFitted is the Kind of a rating table read with a column only a
+// rating fit's table has (IsFitTable: basis or a band bound; not
+// extrapolated, which a plain rating table may have).
 const KindFitted = "fitted rating"
 
 // KindBackwater is the Kind of a rating table whose flags column carries
@@ -373,7 +374,7 @@ func finishRatingTable(t *Table, out rating.Table, rows []int) (rating.Table, er
 	}
 	out.Slope = uniformSlope(out.Rows)
 	switch {
-	case t.Column("basis") >= 0 || t.Column(ColRatingExtrapolated) >= 0:
+	case IsFitTable(t):
 		out.Kind = KindFitted
 	case slices.ContainsFunc(out.Rows, func(r rating.Row) bool {
 		return slices.Contains(r.Flags, reach.FlagUnsettled) || slices.Contains(r.Flags, reach.FlagCriticalStage)

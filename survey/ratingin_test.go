@@ -140,7 +140,8 @@ func TestRatingTableUnits(t *testing.T) {
 // rows of a step-backwater table (invented); a table whose flags column
 // carries backwater's own flags (unsettled, critical_stage) is one
 // whatever its slopes, while rate's flags (pools, above_end) say nothing
-// of the method.
+// of the method. A fit's table is told by the columns only a fit writes
+// (basis, the band bounds), not by extrapolated.
 func TestRatingFromTableKind(t *testing.T) {
 	for _, tc := range []struct {
 		name, csv string
@@ -154,7 +155,11 @@ func TestRatingFromTableKind(t *testing.T) {
 		{"one flowing row", "stage,conveyance,discharge\n100.3,0,0\n100.4,0.871846,0.0302016\n", math.NaN(), ""},
 		{"no conveyance", "stage,discharge\n1,0\n2,1\n", math.NaN(), ""},
 		{"fit table", "stage,discharge,extrapolated,basis\n0.4,0.036,true,fit below gaugings\n0.46,0.123,false,fit\n", math.NaN(), KindFitted},
-		{"rating period table", "stage,discharge,extrapolated\n0.4,0.036,false\n0.5,0.2,true\n", math.NaN(), KindFitted},
+		{"fit table, bands only", "stage,discharge,lower_95,upper_95\n0.4,0.036,0.03,0.04\n0.46,0.123,0.11,0.13\n", math.NaN(), KindFitted},
+		{"fit table, total band only", "stage,discharge,total_lower_95,total_upper_95\n0.4,0.036,0.03,0.04\n0.46,0.123,0.11,0.13\n", math.NaN(), KindFitted},
+		// The README's rating table may mark rows above the highest
+		// gauging: a plain rating still, not a fit's.
+		{"rating table marking extrapolated rows", "stage,discharge,extrapolated\n0.4,0.036,\n0.5,0.2,yes\n", math.NaN(), ""},
 		{"step-backwater, unsettled", "stage,conveyance,discharge,flags\n100.7915,42.4931,2,unsettled\n100.9757,85.2777,4,\n101.1163,129.367,6,\n",
 			math.NaN(), KindBackwater},
 		{"step-backwater, critical and above an end", "stage,conveyance,discharge,flags\n100.7915,42.4931,2,critical_stage\n100.9757,85.2777,4,\n101.1163,129.367,6,above_end\n",

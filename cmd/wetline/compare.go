@@ -253,7 +253,7 @@ func (f *compareFlags) sections(e *env, fs *flagSet, a, b string, format string)
 	} else if w != "" {
 		c.Warnings = append(c.Warnings, w)
 	}
-	c.SetDatums(ps[0].Site.Datum, ps[1].Site.Datum)
+	c.SetSites(ps[0].Site, ps[1].Site)
 	if f.plots != "" || format == "xlsx" {
 		figs, w, err := plotting.DrawSectionComparison(&c, c.Provenance.Site.Name, compareBase(a, b), plotting.Size{})
 		if err != nil {

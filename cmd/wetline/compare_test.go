@@ -5,11 +5,15 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
+	"github.com/xuri/excelize/v2"
+
 	"wetline/plotting"
+	"wetline/survey/results"
 )
 
 const (
@@ -258,5 +262,81 @@ func TestCompareSummaryUnits(t *testing.T) {
 				t.Errorf("summary %q: want the discharge difference%s and the largest percentage", line, tc.unit)
 			}
 		})
+	}
+}
+
+// TestCompareSectionsDates: each survey's date reaches every format. A
+// surveyed 2020-01-14 and B 2023-06-21 (one site, one datum): the text
+// names both dates, the JSON gives each survey's site block after the
+// site's (whose date, neither survey's alone, is blank), and the
+// workbook's summary has a row for each date.
+func TestCompareSectionsDates(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	put := func(name, src, date string) string {
+		body, err := os.ReadFile(src)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, append([]byte("# site: Test Creek\n# surveyed: "+date+"\n# datum: local\n"), body...), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	a, b := put("a.csv", recSectionA, "2020-01-14"), put("b.csv", recSectionB, "2023-06-21")
+	out, errs, code := runCLI(t, "compare", a, b, "--stages", "12")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.Contains(out, "\nSite: Test Creek, datum local\nSurveyed: A 2020-01-14, B 2023-06-21\n") {
+		t.Errorf("text does not name both survey dates:\n%s", out)
+	}
+	out, errs, code = runCLI(t, "compare", a, b, "--stages", "12", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var doc map[string]json.RawMessage
+	if err := json.Unmarshal([]byte(out), &doc); err != nil {
+		t.Fatal(err)
+	}
+	type site struct{ Name, Surveyed, Datum string }
+	var s, sa, sb site
+	for _, kv := range []struct {
+		key string
+		v   *site
+	}{{"site", &s}, {"site_a", &sa}, {"site_b", &sb}} {
+		if err := json.Unmarshal(doc[kv.key], kv.v); err != nil {
+			t.Fatalf("%s: %v", kv.key, err)
+		}
+	}
+	if s != (site{"Test Creek", "", "local"}) || sa != (site{"Test Creek", "2020-01-14", "local"}) || sb != (site{"Test Creek", "2023-06-21", "local"}) {
+		t.Errorf("site %+v, site_a %+v, site_b %+v", s, sa, sb)
+	}
+	keys := jsonKeys(t, []byte(out))
+	if i, j, k := slices.Index(keys, "site"), slices.Index(keys, "site_a"), slices.Index(keys, "site_b"); !(i >= 4 && j == i+1 && k == j+1) || !slices.Equal(keys[:4], []string{"kind", "a", "b", "units"}) {
+		t.Errorf("keys %q: want kind, a, b, units first and site_a, site_b after site", keys)
+	}
+	book := filepath.Join(dir, "c.xlsx")
+	if _, errs, code := runCLI(t, "compare", a, b, "--stages", "12", "-o", book); code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	f, err := excelize.OpenFile(book)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	rows, err := f.GetRows(results.SheetSummary)
+	if err != nil {
+		t.Fatal(err)
+	}
+	got := map[string]string{}
+	for _, r := range rows {
+		if len(r) >= 2 {
+			got[r[0]] = r[1]
+		}
+	}
+	if got["survey A surveyed"] != "2020-01-14" || got["survey B surveyed"] != "2023-06-21" {
+		t.Errorf("summary rows %q", rows)
 	}
 }

@@ -653,7 +653,7 @@ func TestRecordGaugeStages(t *testing.T) {
 		t.Errorf("--stage-tolerance 0.05: exit %d %s\n%s", code, errs, out)
 	}
 	// The workbook's gaugings sheet adds the recorded stage and the
-	// difference after its columns.
+	// difference after its columns, then the exclude reason last.
 	book := filepath.Join(dir, "r.xlsx")
 	if _, errs, code := runCLI(t, args("-o", book)...); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -668,7 +668,7 @@ func TestRecordGaugeStages(t *testing.T) {
 		t.Fatal(err)
 	}
 	head := strings.Join(rows[0], "|")
-	if !strings.HasSuffix(head, "|flags|recorded stage (m)|stage difference (m)|beyond stage tolerance") {
+	if !strings.HasSuffix(head, "|flags|recorded stage (m)|stage difference (m)|beyond stage tolerance|exclude") {
 		t.Errorf("gaugings sheet header %q", head)
 	}
 	if len(rows) != 3 {

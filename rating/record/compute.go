@@ -331,6 +331,7 @@ func Compute(st *Stages, r *gauged.Rater, opt Options) (*Result, error) {
 	c := newCounter(res, st, off)
 	res.unitValues(r, maxGap, c)
 	res.Warnings = append(res.Warnings, datumSteps(st, res.Units, maxGap, tol, res.Zone, opt.UnitSystem)...)
+	res.Warnings = append(res.Warnings, ratingBreakSteps(st, r, maxGap, res.Zone, opt.UnitSystem)...)
 	c.integrate(st, r, maxGap)
 	res.Daily = c.daily(res.Zone)
 	res.summarize(c)

@@ -266,9 +266,11 @@ func geometryJSON(g rating.SectionGeometry) jsonGeometry {
 //	{"kind": "sections", "a", "b", "units", "rows": [{"stage",
 //	 "a": {"area", "wetted_perimeter", "top_width", "conveyance"}, "b": {...},
 //	 "difference": {...}, "conveyance_percent_difference"}], "warnings", "caution",
-//	 "site", "input_notes"}
+//	 "site", "site_a", "site_b", "input_notes"}
 //
-// Undefined values are null.
+// site is the site of both surveys (SetSites: blank where they disagree
+// on date or datum), site_a and site_b what each survey says of it (its
+// survey date), null when nothing. Undefined values are null.
 func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error {
 	out := struct {
 		Kind     string                  `json:"kind"`
@@ -279,9 +281,11 @@ func WriteSectionComparisonJSON(w io.Writer, c *rating.SectionComparison) error 
 		Warnings []string                `json:"warnings"`
 		Caution  string                  `json:"caution"`
 		Site     *jsonSite               `json:"site"`
+		SiteA    *jsonSite               `json:"site_a"`
+		SiteB    *jsonSite               `json:"site_b"`
 		Notes    []string                `json:"input_notes,omitempty"`
 	}{Kind: "sections", A: c.A, B: c.B, Units: UnitNames(c.Units), Rows: []jsonSectionDifference{}, Warnings: nonNil(c.Warnings), Caution: rating.Caution,
-		Site: siteJSON(c.Provenance.Site), Notes: c.Provenance.Notes}
+		Site: siteJSON(c.Provenance.Site), SiteA: siteJSON(c.SiteA), SiteB: siteJSON(c.SiteB), Notes: c.Provenance.Notes}
 	for _, r := range c.Rows {
 		out.Rows = append(out.Rows, jsonSectionDifference{Float(r.Stage), geometryJSON(r.A), geometryJSON(r.B), geometryJSON(r.Difference), Float(r.ConveyancePercent)})
 	}
@@ -301,6 +305,9 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 	}
 	fmt.Fprintf(bw, "Two surveys of one section compared: A = %s, B = %s (%s units; %s)\n", c.A, c.B, u, datum)
 	bw.WriteString(siteLine(c.Provenance))
+	if l := surveyDates(c); l != "" {
+		bw.WriteString("Surveyed: " + l + "\n")
+	}
 	fmt.Fprintf(bw, "Differences are B − A: a larger area or conveyance in B is scour (or a lower control), a smaller one fill.\n")
 	fmt.Fprintf(bw, "\n  %9s %10s %10s %10s %9s %9s %12s %12s %9s\n", "stage", "area A", "area B", "Δ area", "Δ perim.", "Δ width", "conv. A", "conv. B", "Δ conv. %")
 	fmt.Fprintf(bw, "  %9s %10s %10s %10s %9s %9s %12s %12s\n", "("+L+")", "("+A+")", "("+A+")", "("+A+")", "("+L+")", "("+L+")", "("+u.Conveyance()+")", "("+u.Conveyance()+")")
@@ -310,6 +317,24 @@ func WriteSectionComparisonText(w io.Writer, c *rating.SectionComparison) error 
 	}
 	writeTextEnd(bw, c.Warnings)
 	return bw.Flush()
+}
+
+// surveyDates says when each survey was made, "A 2020-01-14, B
+// 2023-06-21" ("" when neither says).
+func surveyDates(c *rating.SectionComparison) string {
+	if strings.TrimSpace(c.SiteA.Surveyed) == "" && strings.TrimSpace(c.SiteB.Surveyed) == "" {
+		return ""
+	}
+	return "A " + surveyDate(c.SiteA) + ", B " + surveyDate(c.SiteB)
+}
+
+// surveyDate is a survey's date as its site block gives it, or says it
+// gives none.
+func surveyDate(s rating.Site) string {
+	if d := strings.TrimSpace(s.Surveyed); d != "" {
+		return d
+	}
+	return "not given"
 }
 
 // WriteSectionComparisonWorkbook writes a comparison of two surveys as a
@@ -326,6 +351,8 @@ func WriteSectionComparisonWorkbook(w io.Writer, c *rating.SectionComparison) er
 		{"read from", joinInputs(c.Provenance.Inputs), ""},
 		{"program", programName(c.Provenance), ""},
 		{"site", c.Provenance.Site.String(), ""},
+		{"survey A surveyed", surveyDate(c.SiteA), ""},
+		{"survey B surveyed", surveyDate(c.SiteB), ""},
 		{"units", fmt.Sprintf("%s: stage in %s, area in %s, conveyance in %s", u, L, A, K), ""},
 		{"method", "area, wetted perimeter, top width and Manning conveyance of each survey at each stage (Chow, 1959); differences B − A", ""},
 	}

@@ -358,7 +358,8 @@ func writeShiftsSheet(b *workbook.Book, name string, ss []shiftInfo, z *time.Loc
 // writeShiftGaugingsSheet writes each gauging against the ratings in
 // force, with its shifts, in input order; with stages (a record's, one per
 // gauging), its recorded stage, the difference and whether it is beyond
-// the tolerance after them.
+// the tolerance after them; last, the reason an excluded gauging is left
+// out (its exclude text, as the CSV's exclude column; empty when kept).
 func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Location, stages []record.GaugeStage) error {
 	u := c.Units
 	L, Q := u.Length(), u.Discharge()
@@ -387,6 +388,7 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 			workbook.Column{Name: "stage_difference", Unit: L, Format: "0.000"},
 			workbook.Column{Name: "beyond_stage_tolerance"})
 	}
+	cols = append(cols, workbook.Column{Name: "exclude", Width: textWidth, Wrap: true})
 	s, err := reportTable(b, SheetGaugings, cols)
 	if err != nil {
 		return err
@@ -401,7 +403,10 @@ func writeShiftGaugingsSheet(b *workbook.Book, c *gauged.ShiftCheck, z *time.Loc
 			g.Shift, g.Applied, g.Residual, g.Shifted, g.ShiftedDeparture, yes(g.OutsideShifted), visit[i] + 1, g.Source, gaugingFlags(g).String()}
 		if i < len(stages) {
 			row = append(row, stages[i].Recorded, stages[i].Difference, yes(stages[i].Beyond))
+		} else if stages != nil {
+			row = append(row, nil, nil, nil)
 		}
+		row = append(row, excludeReason(g))
 		if err := s.Row(row...); err != nil {
 			return err
 		}

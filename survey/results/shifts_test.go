@@ -131,6 +131,19 @@ func TestShiftsFlags(t *testing.T) {
 			t.Errorf("sheet row %d: flags %q, want %q", i+1, got, w.flags)
 		}
 	}
+	ex := slices.Index(rows[0], "exclude")
+	if ex < 0 {
+		t.Fatalf("the gaugings sheet has no exclude column: %q", rows[0])
+	}
+	for i, w := range want {
+		got := ""
+		if row := rows[i+1]; ex < len(row) {
+			got = row[ex]
+		}
+		if got != w.exclude {
+			t.Errorf("sheet row %d: exclude %q, want %q", i+1, got, w.exclude)
+		}
+	}
 }
 
 // shiftsSheetRows writes the shifts workbook of c and returns the rows
