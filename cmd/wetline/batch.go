@@ -19,10 +19,11 @@ import (
 // runBatch rates several surveys: one table per section in the -o folder
 // with an index (the folder replaced whole when the run succeeds), or one
 // long table with --long. A section that fails does not stop the others:
-// every section is rated, and when any failed nothing is written (no
-// folder, no long table, an earlier output left as it was), every failed
-// section is listed on standard error with its error, and the run ends
-// with an error saying how many failed.
+// every section is rated, and when any failed, or none was rated (every
+// one skipped), nothing is written (no folder, no long table, an earlier
+// output left as it was), every failed section is listed on standard
+// error with its error, and the run ends with an error saying how many
+// failed or that nothing was rated.
 func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	for _, name := range []string{"plots", "calibrate", "gaugings-sheet", "datum", "channel-only", "shape"} {
 		if fs.Changed(name) {
@@ -73,27 +74,31 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	prog := &progress{e: e, total: len(jobs), start: time.Now()}
 	opt := batch.Options{Request: req, Stages: f.stageSpec(fs), Progress: prog.update,
 		Rating: rating.Options{Slope: f.slope, Units: req.Units, Geometry: f.geometry()}}
-	sum, where, err := writeBatch(ctx, e, f, format, jobs, opt)
+	st, err := writeBatch(ctx, e, f, format, jobs, opt)
+	defer st.done()
 	prog.done()
 	if err != nil {
 		return err
 	}
-	if sum.Failed > 0 {
-		// Nothing was committed: list every failure, as no index holds them.
+	sum := st.sum
+	if !sum.Clean() {
+		// Nothing is put in place: list every failure, as no index holds
+		// them.
+		e.files.Discard()
 		if err := results.WriteBatchFailures(e.stderr, sum.Entries); err != nil {
 			return err
 		}
 		return fmt.Errorf("%w; nothing was written, so %s", sum.Err("above"), untouched(f))
 	}
-	index, note := "", "above"
-	if !f.long {
-		index = filepath.Join(f.output, batch.IndexFile)
-		note = "in " + index
-	}
-	if err := results.WriteBatchSummary(e.stderr, sum.Entries, where, index); err != nil {
+	e.pass("staged")
+	if err := st.put(); err != nil {
 		return err
 	}
-	return sum.Err(note)
+	index := ""
+	if !f.long {
+		index = filepath.Join(f.output, batch.IndexFile)
+	}
+	return results.WriteBatchSummary(e.stderr, sum.Entries, st.where, index)
 }
 
 // untouched says which output a failed batch left as it was.
@@ -104,69 +109,67 @@ func untouched(f *rateFlags) string {
 	return f.output + " is as it was before the run"
 }
 
-// writeBatch rates the jobs into the -o folder, or into one long table,
-// and commits the output only when no section failed; it says where the
-// tables went. A long table for standard output is held in a temporary
-// file until the batch is known to have no failed section.
-func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs []batch.Job, opt batch.Options) (batch.Summary, string, error) {
-	var sum batch.Summary
-	var err error
-	// A failed section fails the run, and run discards what a failed run
-	// wrote: commit only a clean batch.
-	commit := func() error {
-		if sum.Failed > 0 {
-			return nil
-		}
-		return e.files.Commit()
-	}
-	switch {
-	case !f.long:
-		sum, err = batch.Folder(ctx, e.files, f.output, format, jobs, opt)
-		if err == nil {
-			e.pass("staged")
-			err = commit()
-		}
-		return sum, fmt.Sprintf("%s (index: %s)", f.output, filepath.Join(f.output, batch.IndexFile)), err
-	case f.output == "" || f.output == "-":
-		sum, err = longToStdout(ctx, e.stdout, jobs, opt)
-		return sum, "one table on standard output", err
-	}
-	err = e.files.Write(f.output, func(w io.Writer) error {
-		var werr error
-		sum, werr = batch.Long(ctx, w, jobs, opt)
-		return werr
-	})
-	if err == nil {
-		e.pass("staged")
-		err = commit()
-	}
-	return sum, "one table on " + f.output, err
+// stagedBatch is a batch rated with its output staged, not yet in place.
+type stagedBatch struct {
+	sum batch.Summary
+	// where says where the tables go.
+	where string
+	// put puts the output in place; the caller calls it only for a clean
+	// batch (batch.Summary.Clean), once, and for no other.
+	put func() error
+	// done removes what is still held aside; it is always called.
+	done func()
 }
 
-// longToStdout writes the long table into a temporary file and copies it
-// to stdout only when no section failed.
-func longToStdout(ctx context.Context, stdout io.Writer, jobs []batch.Job, opt batch.Options) (batch.Summary, error) {
+// writeBatch rates the jobs into the -o folder, or into one long table,
+// and stages the output without putting any of it in place: that is the
+// caller's, once the batch is known to be clean. A long table for
+// standard output is held in a temporary file until then.
+func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs []batch.Job, opt batch.Options) (stagedBatch, error) {
+	st := stagedBatch{put: e.files.Commit, done: func() {}}
+	var err error
+	switch {
+	case !f.long:
+		st.where = fmt.Sprintf("%s (index: %s)", f.output, filepath.Join(f.output, batch.IndexFile))
+		st.sum, err = batch.Folder(ctx, e.files, f.output, format, jobs, opt)
+	case f.output == "" || f.output == "-":
+		st.where = "one table on standard output"
+		st.sum, st.put, st.done, err = longToStdout(ctx, e.stdout, jobs, opt)
+	default:
+		st.where = "one table on " + f.output
+		err = e.files.Write(f.output, func(w io.Writer) error {
+			var werr error
+			st.sum, werr = batch.Long(ctx, w, jobs, opt)
+			return werr
+		})
+	}
+	return st, err
+}
+
+// longToStdout writes the long table into a temporary file; put copies
+// it to stdout, and done removes the file.
+func longToStdout(ctx context.Context, stdout io.Writer, jobs []batch.Job, opt batch.Options) (batch.Summary, func() error, func(), error) {
 	tmp, err := os.CreateTemp("", "wetline-long-*.csv")
 	if err != nil {
-		return batch.Summary{}, err
+		return batch.Summary{}, nil, func() {}, err
 	}
-	defer func() {
+	done := func() {
 		tmp.Close()
 		os.Remove(tmp.Name())
-	}()
+	}
 	bw := bufio.NewWriter(tmp)
 	sum, err := batch.Long(ctx, bw, jobs, opt)
 	if err == nil {
 		err = bw.Flush()
 	}
-	if err != nil || sum.Failed > 0 {
-		return sum, err
+	put := func() error {
+		if _, err := tmp.Seek(0, io.SeekStart); err != nil {
+			return err
+		}
+		_, err := io.Copy(stdout, tmp)
+		return err
 	}
-	if _, err := tmp.Seek(0, io.SeekStart); err != nil {
-		return sum, err
-	}
-	_, err = io.Copy(stdout, tmp)
-	return sum, err
+	return sum, put, done, err
 }
 
 // progress shows "rating: k of n sections" on standard error when it is

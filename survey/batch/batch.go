@@ -3,7 +3,8 @@
 // sections are rated on a pool of workers and their results come back in
 // input order; a section that fails is listed with its error and does not
 // stop the others, so that every failure is found in one run. The
-// command commits a batch's output only when no section failed.
+// command commits a batch's output only when it is clean: no section
+// failed, and at least one was rated (Summary.Clean).
 //
 // A survey with a header and no rows (a blank sheet of the field
 // workbook) is skipped with a note, not failed.
@@ -624,6 +625,12 @@ var ErrFailed = errors.New("sections failed")
 // skipped.
 var ErrNothingRated = errors.New("no section has survey rows: nothing was rated")
 
+// Clean reports whether a batch's output may be put in place: every
+// section was rated or skipped, and at least one rated (Err is nil). A
+// batch that is not clean ends with an error, and writes nothing: the
+// caller discards its output, leaving an earlier one as it was.
+func (s Summary) Clean() bool { return s.Err("") == nil }
+
 // Err returns nil when every section was rated or skipped and at least
 // one rated; else an error saying how many failed (wrapping ErrFailed),
 // or that all were skipped (ErrNothingRated).
@@ -642,8 +649,9 @@ func (s Summary) Err(where string) error {
 // per section in format "csv" or "json", and the index. Only the index
 // and the tables of sections that were rated are staged; the index lists
 // every section, failed and skipped ones too. The caller commits files
-// only when the Summary counts no failed section, and discards them
-// otherwise, so a failed batch leaves an earlier folder as it was.
+// only when the batch is clean (Summary.Clean: no section failed, one
+// rated) and nothing returned an error, and discards them otherwise, so
+// a failed batch leaves an earlier folder as it was.
 func Folder(ctx context.Context, files *output.Files, dir, format string, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	d, err := files.Folder(dir, IndexFile, IndexedFiles)
@@ -674,7 +682,9 @@ func Folder(ctx context.Context, files *output.Files, dir, format string, jobs [
 
 // Long rates the jobs into one long CSV table written to w (see
 // results.LongRatingWriter). Sections that fail or are skipped are left
-// out.
+// out. The caller puts the table in place only when the batch is clean
+// (Summary.Clean) and nothing returned an error: a batch that rated
+// nothing writes no header-only table.
 func Long(ctx context.Context, w io.Writer, jobs []Job, opt Options) (Summary, error) {
 	var sum Summary
 	long := results.NewLongRatingWriter(w)

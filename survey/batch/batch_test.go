@@ -342,6 +342,8 @@ func TestRateBankfull(t *testing.T) {
 	}
 }
 
+// TestSummaryErr: a batch is clean (its output may be put in place)
+// exactly when it ends without an error.
 func TestSummaryErr(t *testing.T) {
 	rated := results.IndexEntry{Section: "a"}
 	failed := results.IndexEntry{Section: "b", Err: "bad cell"}
@@ -372,6 +374,10 @@ func TestSummaryErr(t *testing.T) {
 			err := s.Err("above")
 			if !errors.Is(err, tc.want) || (tc.want == nil) != (err == nil) || (err != nil && !strings.Contains(err.Error(), tc.words)) {
 				t.Errorf("err %v, want %v with %q", err, tc.want, tc.words)
+			}
+			// A batch ending with an error is never put in place.
+			if s.Clean() != (err == nil) {
+				t.Errorf("Clean() = %v with err %v", s.Clean(), err)
 			}
 		})
 	}
