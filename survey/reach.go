@@ -1003,11 +1003,11 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 // writes. Stages are in the datum of the reach's surveys. See
 // BoundaryRatingFromTable.
 func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
-	t, err := readTable(path, sheet, "rating")
+	src, err := readRatingSource(path, sheet, SheetResultsRating)
 	if err != nil {
 		return BoundaryRating{}, err
 	}
-	return BoundaryRatingFromTable(t)
+	return BoundaryRatingFromTable(src.Table)
 }
 
 // BoundaryRatingFromTable reads the stage (or gauge_height) and
