@@ -1078,7 +1078,8 @@ func (t *Table) unreadWarning(rec Record, c int, why string) string {
 
 // ownWarnings returns a copy of the table's warnings, to begin the
 // warnings of what is read from it: every reader of a table carries them
-// (a hidden sheet named, '#' lines holding values), however it was read.
+// (a hidden sheet named, hidden rows read, cells beside the site block,
+// '#' lines holding values), however it was read.
 func (t *Table) ownWarnings() []string {
 	return slices.Clone(t.Warnings)
 }
