@@ -110,6 +110,9 @@ type sheetScan struct {
 	unsaved cellRuns
 	marks   map[cellAt]cellMark
 	dates   cellRuns
+	// hidden are the rows hidden in the sheet (their row element's
+	// hidden attribute true), rising.
+	hidden []int64
 }
 
 // cellRuns holds cells of a sheet: for each 1-based column, its runs of
@@ -406,7 +409,7 @@ func (e *scanError) Unwrap() error { return e.err }
 // f element) but no saved value (no v element, or an empty one, <v/> or
 // <v></v>, but for a formula of text, t="str", whose result may be "")
 // are returned, with the boolean cells and the number cells whose style
-// is marked in facts.styles (see markedStyles).
+// is marked in facts.styles (see markedStyles), and the hidden rows.
 func scanSheet(f *zip.File, facts bookFacts) (sheetScan, error) {
 	// The XML is parsed beside the tag scan, on another core; its error,
 	// the damage, comes first.
@@ -466,6 +469,9 @@ func scanTags(f *zip.File, facts bookFacts) (sheetScan, error) {
 				return out, &scanError{row: int(row), err: fmt.Errorf("%w (row %d after row %d; a sheet holds %d rows)", ErrRowNumber, row, last, MaxSheetRows)}
 			}
 			col, lastRef = 0, nil
+			if h := string(attrValue(tag.attrs, "hidden")); h == "1" || h == "true" {
+				out.hidden = append(out.hidden, row)
+			}
 		case name == "c" && !tag.end:
 			col++
 			// The column from the cell's reference; the row is its row

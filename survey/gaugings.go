@@ -74,7 +74,39 @@ func ReadGaugings(path, sheet string) (Gaugings, error) {
 	if err != nil {
 		return Gaugings{}, err
 	}
-	return GaugingsFromTable(t)
+	g, err := GaugingsFromTable(t)
+	return g, gaugingsSheetHint(t, sheet, err)
+}
+
+// gaugingsSheetHint adds to a missing column of gaugings read from a
+// workbook with no sheet named, and no sheet named FieldSheetGaugings
+// (the sheet read being the first), which sheet to name with
+// --gaugings-sheet: the first other sheet holding gaugings (time, stage
+// and discharge columns), or else the workbook's sheets. Other errors are
+// returned as they are.
+func gaugingsSheetHint(t *Table, sheet string, err error) error {
+	var pe *ParseError
+	if sheet != "" || t.Sheet == "" || strings.EqualFold(t.Sheet, FieldSheetGaugings) ||
+		!errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
+		return err
+	}
+	for _, name := range t.Sheets {
+		if name == t.Sheet {
+			continue
+		}
+		o, e := ReadTable(t.File, name)
+		if e != nil {
+			continue
+		}
+		if _, e := gaugingColsOf(o); e == nil {
+			pe.Err = fmt.Errorf("%w; the workbook has no sheet named %s and this one, its first, holds no gaugings: sheet %s does: give --gaugings-sheet %s",
+				pe.Err, FieldSheetGaugings, name, SheetArg(name))
+			return err
+		}
+	}
+	pe.Err = fmt.Errorf("%w; the workbook has no sheet named %s and this one, its first, holds no gaugings: name the sheet holding them with --gaugings-sheet (sheets: %s)",
+		pe.Err, FieldSheetGaugings, strings.Join(t.Sheets, ", "))
+	return err
 }
 
 // ParseGaugings reads gaugings from CSV text; name is used in messages.

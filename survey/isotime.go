@@ -493,5 +493,6 @@ func ReadGaugingsAt(path, sheet string, offset time.Duration) (Gaugings, error) 
 	if err != nil {
 		return Gaugings{}, &ParseError{File: t.File, Sheet: t.Sheet, Err: err}
 	}
-	return gaugingsFromTable(t, off)
+	g, err := gaugingsFromTable(t, off)
+	return g, gaugingsSheetHint(t, sheet, err)
 }

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"encoding/csv"
+	"fmt"
 	"io"
 	"math"
 	"strings"
@@ -202,52 +203,84 @@ func lineValues(text []byte) int {
 // comment row (commentRow), and above the header (belowHeader false) a
 // key row of the site block (metaRow). What the row says of the site is
 // added to meta (made when nil), which is returned with whether the row
-// was taken. Every table reader sets its rows aside here.
-func siteRow(meta map[string]string, rec []string, inSheet, belowHeader bool) (map[string]string, bool) {
+// was taken and the columns (0-based) of a key row's cells to the right
+// of its value, which are not read (see metaRow). Every table reader sets
+// its rows aside here.
+func siteRow(meta map[string]string, rec []string, inSheet, belowHeader bool) (map[string]string, []int, bool) {
 	if inSheet {
 		if line, ok := commentRow(rec, belowHeader); ok {
 			if !belowHeader {
 				meta = addMetaLine(meta, line)
 			}
-			return meta, true
+			return meta, nil, true
 		}
 	}
 	if belowHeader {
-		return meta, false
+		return meta, nil, false
 	}
-	k, v, ok := metaRow(rec)
+	k, v, extra, ok := metaRow(rec)
 	if !ok {
-		return meta, false
+		return meta, nil, false
 	}
 	if meta == nil {
 		meta = map[string]string{}
 	}
 	meta[k] = v
-	return meta, true
+	return meta, extra, true
 }
 
 // metaRow reads a sheet row above the header as a key and its value: the
 // first cell one of MetaKeys (a trailing colon allowed), the second its
-// value, nothing after.
-func metaRow(rec []string) (key, value string, ok bool) {
+// value. Cells to the right of the value (a title or a page number the
+// crew wrote beside the site block) do not stop the row being a key row:
+// they are not read, and their columns (0-based) are returned in extra
+// for the reader's warning. No table's column is named as a key, so a
+// header row is never taken for a key row.
+func metaRow(rec []string) (key, value string, extra []int, ok bool) {
 	cells := trimAll(rec)
 	for len(cells) > 0 && cells[len(cells)-1] == "" {
 		cells = cells[:len(cells)-1]
 	}
-	if len(cells) < 1 || len(cells) > 2 {
-		return "", "", false
+	if len(cells) < 1 {
+		return "", "", nil, false
 	}
 	key, ok = metaKey(cells[0])
 	if !ok {
-		return "", "", false
+		return "", "", nil, false
 	}
-	if len(cells) == 2 {
+	if len(cells) >= 2 {
 		value = cells[1]
 	}
-	return key, value, true
+	for c := 2; c < len(cells); c++ {
+		if cells[c] != "" {
+			extra = append(extra, c)
+		}
+	}
+	return key, value, extra, true
+}
+
+// siteExtrasWarning is the warning of the cells to the right of the
+// values of a site block's key rows (cells, each as "G1"), which are not
+// read; "" when there are none. where is the file, or the file and sheet.
+func siteExtrasWarning(where string, cells []string) string {
+	if len(cells) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("%s: %s to the right of the site block's %s (%s) %s not read", where,
+		rating.Counted(len(cells), "cell", "cells"), rating.Agree(len(cells), "value", "values"), strings.Join(cells, ", "), rating.Agree(len(cells), "is", "are"))
 }
 
 // Site returns the site metadata read above the table.
 func (t *Table) Site() rating.Site {
 	return siteOf(t.Meta)
+}
+
+// fieldNames names the fields (0-based cols) of a CSV line for a warning:
+// "line 1 field 7".
+func fieldNames(line int, cols []int) []string {
+	out := make([]string, len(cols))
+	for i, c := range cols {
+		out[i] = fmt.Sprintf("line %d field %d", line, c+1)
+	}
+	return out
 }

@@ -226,7 +226,7 @@ func resultsRatingSheets() []string {
 // ErrNoRatingSheet is the cause of a results workbook, read for its rating
 // table, that has none (a record's, a shift check's, a slope-area
 // computation's, a fit's without a fitted table).
-var ErrNoRatingSheet = errors.New("a results workbook with no rating table to redraw")
+var ErrNoRatingSheet = errors.New("a results workbook with no rating table")
 
 // RatingSource is a rating table read back for redrawing, with what the
 // summary sheet of a results workbook says of it.
@@ -272,9 +272,26 @@ func OtherRatingSheet(t *Table) string {
 // (the rating sheet's headers name its units). A results workbook with
 // neither is ErrNoRatingSheet (a *ParseError at the workbook), saying
 // which sheets hold one and, for a record's or a shift check's workbook,
-// that its ratings sheet holds every rating period together.
+// that its ratings sheet holds every rating period together. Every
+// reader of a rating table given with no sheet named finds it so (see
+// ReadRatingTable).
 func ReadRatingSource(path, sheet string) (RatingSource, error) {
-	t, err := ReadTable(path, sheet)
+	return readRatingSource(path, sheet, "")
+}
+
+// ReadRatingTable is ReadRatingSource's table alone: the rating table of
+// a file, or of a workbook's sheet, or of a results workbook's rating
+// sheet when no sheet is named.
+func ReadRatingTable(path, sheet string) (*Table, error) {
+	src, err := ReadRatingSource(path, sheet)
+	return src.Table, err
+}
+
+// readRatingSource is ReadRatingSource; in a workbook with no sheet
+// named, a sheet named prefer (any case) is read when there is one (see
+// readTable).
+func readRatingSource(path, sheet, prefer string) (RatingSource, error) {
+	t, err := readTable(path, sheet, prefer)
 	if err != nil || sheet != "" || !strings.EqualFold(t.Sheet, SheetResultsSummary) {
 		return RatingSource{Table: t}, err
 	}
@@ -296,7 +313,7 @@ func ReadRatingSource(path, sheet string) (RatingSource, error) {
 	}
 	err = fmt.Errorf("%w (rate and backwater write theirs to a sheet named %s, fit to one named %s)", ErrNoRatingSheet, SheetResultsRating, SheetResultsFitted)
 	if s := found(SheetResultsRatings); s != "" {
-		err = fmt.Errorf("%w; its %s sheet lists every rating period used together, not one table: plot each rating file read (the summary's read from)", err, s)
+		err = fmt.Errorf("%w; its %s sheet lists every rating period used together, not one table: give a rating file the summary's read from names", err, s)
 	}
 	return RatingSource{Table: t}, &ParseError{File: path, Err: err}
 }

@@ -131,9 +131,10 @@ func (r *validFromReader) read(rec Record) (from time.Time, given bool, err *Par
 }
 
 // ReadRatingTables reads rating tables from a CSV file or a workbook sheet
-// (by extension). See RatingTablesFromTable.
+// (by extension; a results workbook's rating sheet when no sheet is
+// named, see ReadRatingSource). See RatingTablesFromTable.
 func ReadRatingTables(path string, opt RatingTableOptions) (RatingTables, error) {
-	t, err := ReadTable(path, opt.Sheet)
+	t, err := ReadRatingTable(path, opt.Sheet)
 	if err != nil {
 		return RatingTables{}, err
 	}

@@ -96,14 +96,18 @@ var (
 	ErrDuplicateSection = errors.New("section id used twice")
 	ErrNoSurvey         = errors.New("the section needs a survey (a file, or a sheet of this workbook)")
 	ErrSurveyAbsent     = errors.New("no such survey file or sheet")
-	ErrSurveyOutside    = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table, or give --surveys-anywhere to allow it")
-	ErrDistanceBlank    = errors.New("distance is blank")
-	ErrDistanceOrder    = errors.New("distances must increase downstream, row by row")
-	ErrNoHighWaterMark  = errors.New("give a high-water mark in ws_left or ws_right")
-	ErrMarkQuality      = errors.New("quality must be " + rating.QualityChoices())
-	ErrNoNColumn        = errors.New("the survey has no n column: every section of a reach needs Manning's n")
-	ErrFlowLengthValue  = errors.New("a flow length must be more than zero (blank: the distance to the next section)")
-	ErrStructureWord    = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
+	// ErrSurveySheetAmbiguous is the cause of a survey naming no sheet
+	// of the reach's workbook exactly but two or more that differ from
+	// it, and from each other, only in case.
+	ErrSurveySheetAmbiguous = errors.New("the survey names more than one sheet of the workbook (their names differ only in case)")
+	ErrSurveyOutside        = errors.New("the survey lies outside the reach table's folder: keep the surveys beside the table, or give --surveys-anywhere to allow it")
+	ErrDistanceBlank        = errors.New("distance is blank")
+	ErrDistanceOrder        = errors.New("distances must increase downstream, row by row")
+	ErrNoHighWaterMark      = errors.New("give a high-water mark in ws_left or ws_right")
+	ErrMarkQuality          = errors.New("quality must be " + rating.QualityChoices())
+	ErrNoNColumn            = errors.New("the survey has no n column: every section of a reach needs Manning's n")
+	ErrFlowLengthValue      = errors.New("a flow length must be more than zero (blank: the distance to the next section)")
+	ErrStructureWord        = fmt.Errorf("structure must be one of %s (a structure at the section), or %s or blank (an open channel)",
 		strings.Join(StructureWords(), ", "), strings.Join(OpenChannelWords(), ", "))
 	ErrStructure = errors.New("the section is at a structure: flow through bridges, culverts and other structures " +
 		"is refused, not approximated; end the reach above it or start it below it")
@@ -192,9 +196,13 @@ func ReadReachWith(path, sheet string, ro ReachOptions) (*Reach, error) {
 	var errs errorList
 	for i := range r.Rows {
 		row := &r.Rows[i]
+		named, alike := sheetNamed(sheets, row.Survey)
 		switch {
-		case slices.Contains(sheets, row.Survey) && row.Survey != t.Sheet:
-			row.Path, row.Sheet = path, row.Survey
+		case len(alike) > 1:
+			errs = append(errs, r.At(i, ReachColSurvey, fmt.Errorf("%w (%s)", ErrSurveySheetAmbiguous, strings.Join(alike, ", "))))
+			continue
+		case named != "" && named != t.Sheet:
+			row.Path, row.Sheet = path, named
 		case filepath.IsAbs(row.Survey):
 			row.Path = row.Survey
 		default:
@@ -344,6 +352,27 @@ func samePath(a, b string) bool {
 	sa, errA := os.Stat(a)
 	sb, errB := os.Stat(b)
 	return errA == nil && errB == nil && os.SameFile(sa, sb)
+}
+
+// sheetNamed finds the sheet a reach table's survey names among a
+// workbook's sheets: the sheet of that name, or else the one whose name
+// differs from it only in case, as spreadsheet programs match sheet
+// names. "" when none does; alike lists the sheets when more than one
+// differs only in case (the name is then ambiguous).
+func sheetNamed(sheets []string, name string) (sheet string, alike []string) {
+	if slices.Contains(sheets, name) {
+		return name, nil
+	}
+	for _, s := range sheets {
+		if strings.EqualFold(s, name) {
+			alike = append(alike, "'"+s+"'")
+			sheet = s
+		}
+	}
+	if len(alike) > 1 {
+		return "", alike
+	}
+	return sheet, nil
 }
 
 // otherReachSheet adds to err, a reach table missing a column on the
@@ -984,11 +1013,11 @@ func (b BoundaryRating) ZeroFlowNote() string {
 // writes. Stages are in the datum of the reach's surveys. See
 // BoundaryRatingFromTable.
 func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
-	t, err := readTable(path, sheet, "rating")
+	src, err := readRatingSource(path, sheet, SheetResultsRating)
 	if err != nil {
 		return BoundaryRating{}, err
 	}
-	return BoundaryRatingFromTable(t)
+	return BoundaryRatingFromTable(src.Table)
 }
 
 // BoundaryRatingFromTable reads the stage (or gauge_height) and

@@ -951,3 +951,41 @@ func TestReadReachGapsRolledUp(t *testing.T) {
 		})
 	}
 }
+
+// A reach table's survey names a sheet of its workbook in any case, as
+// spreadsheet programs match sheet names; two sheets differing only in
+// case are refused as ambiguous (names edited into the workbook, as
+// spreadsheet programs and the library do not make such a pair).
+func TestReachSurveySheetAnyCase(t *testing.T) {
+	surveyRows := [][]any{{"station", "elevation", "n"}, {0, 12, 0.05}, {10, 10, 0.04}, {20, 12, nil}}
+	reachRows := [][]any{{"section", "survey", "distance", "ws_left", "ws_right"}, {"XS3", "xs-3 ford", 0, 11.0, 10.96}}
+	path := writeBook(t, t.TempDir(), map[string][][]any{"reach": reachRows, "XS-3 Ford": surveyRows, "XS-4": surveyRows},
+		[]string{"reach", "XS-3 Ford", "XS-4"})
+	r, err := ReadReach(path, "reach", SectionOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Rows[0].Sheet != "XS-3 Ford" {
+		t.Errorf("survey sheet %q, want XS-3 Ford", r.Rows[0].Sheet)
+	}
+
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	twin := rewriteZip(t, data, func(name string, b []byte) []byte {
+		if name == "xl/workbook.xml" {
+			return bytes.Replace(b, []byte(`name="XS-4"`), []byte(`name="xs-3 FORD"`), 1)
+		}
+		return b
+	})
+	path = filepath.Join(t.TempDir(), "twin.xlsx")
+	if err := os.WriteFile(path, twin, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err = ReadReach(path, "reach", SectionOptions{})
+	var pe *ParseError
+	if !errors.Is(err, ErrSurveySheetAmbiguous) || !errors.As(err, &pe) || pe.Row != 2 {
+		t.Errorf("two sheets alike but for case: %v, want ErrSurveySheetAmbiguous at row 2", err)
+	}
+}

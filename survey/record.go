@@ -169,8 +169,11 @@ func parseStageCSV(r io.Reader, name string, opt StageRecordOptions, sizeHint in
 			if len(h) == 1 && strings.Contains(h[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
-			if m, ok := siteRow(cs.meta, h, false, false); ok { // a site block's key row saved as CSV
+			if m, extra, ok := siteRow(cs.meta, h, false, false); ok { // a site block's key row saved as CSV
 				cs.meta = m
+				if len(extra) > 0 {
+					b.out.Warnings = append(b.out.Warnings, siteExtrasWarning(name, fieldNames(line, extra)))
+				}
 				continue
 			}
 			if err := b.setHeader(h, line, sizeHint); err != nil {
@@ -205,7 +208,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	}
 	b.out.Warnings = append(b.out.Warnings, warnings...)
 	var fields [][]byte
-	meta, err := f.sheetRows(path, sheet, nil, func(n int, rec []string, header bool) (bool, error) {
+	meta, rowWarnings, err := f.sheetRows(path, sheet, nil, func(n int, rec []string, header bool) (bool, error) {
 		if header {
 			if err := b.setHeader(trimAll(rec), n, 0); err != nil {
 				return false, err
@@ -228,6 +231,7 @@ func readStageWorkbook(path string, opt StageRecordOptions) (*StageRecord, error
 	if err != nil {
 		return nil, err
 	}
+	b.out.Warnings = append(b.out.Warnings, rowWarnings...)
 	b.out.Site = siteOf(meta)
 	return b.finish()
 }

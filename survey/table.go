@@ -692,8 +692,11 @@ func parseCSVData(data []byte, name string) (*Table, error) {
 			if len(rec) == 1 && strings.Contains(rec[0], ";") {
 				return nil, &ParseError{File: name, Row: line, Err: ErrSemicolon}
 			}
-			if m, ok := siteRow(b.t.Meta, rec, false, false); ok { // a site block's key row saved as CSV
+			if m, extra, ok := siteRow(b.t.Meta, rec, false, false); ok { // a site block's key row saved as CSV
 				b.t.Meta = m
+				if len(extra) > 0 {
+					b.t.Warnings = append(b.t.Warnings, siteExtrasWarning(name, fieldNames(line, extra)))
+				}
 				continue
 			}
 			if err := b.header(rec, line); err != nil {
@@ -829,7 +832,8 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	b.t.Warnings = warnings
 	unsaved := f.scans.done[sheet].unsaved
 	b.t.Date1904 = f.date1904
-	b.t.Meta, err = f.sheetRows(path, sheet, b.t.Meta, func(n int, rec []string, header bool) (bool, error) {
+	var rowWarnings []string
+	b.t.Meta, rowWarnings, err = f.sheetRows(path, sheet, b.t.Meta, func(n int, rec []string, header bool) (bool, error) {
 		if header {
 			if err := b.header(rec, n); err != nil {
 				return false, err
@@ -841,6 +845,7 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 	if err != nil {
 		return nil, err
 	}
+	b.t.Warnings = append(b.t.Warnings, rowWarnings...)
 	if b.t.Header == nil {
 		if err := unsavedError(path, sheet, nil, unsaved, 1, MaxSheetRows, nil, "in the sheet"); err != nil {
 			return nil, err
@@ -857,31 +862,60 @@ func sheetTable(f *inputBook, path, sheet string) (*Table, error) {
 // the key rows of the site block, whose words it adds to meta) are passed
 // over; the first other row is the header and the rest are data rows.
 // each is given the header (header true) and then each data row, and may
-// stop the reading. It returns meta with the first error: each's, or a
+// stop the reading. It returns meta with the sheet's warnings (the cells
+// beside the site block's values, which are not read; the hidden rows
+// read, see hiddenRowsWarning) and the first error: each's, or a
 // ParseError where the sheet cannot be read.
-func (f *inputBook) sheetRows(path, sheet string, meta map[string]string, each func(n int, rec []string, header bool) (stop bool, err error)) (map[string]string, error) {
+func (f *inputBook) sheetRows(path, sheet string, meta map[string]string, each func(n int, rec []string, header bool) (stop bool, err error)) (map[string]string, []string, error) {
 	rows, err := f.Rows(sheet)
 	if err != nil {
-		return meta, &ParseError{File: path, Sheet: sheet, Err: err}
+		return meta, nil, &ParseError{File: path, Sheet: sheet, Err: err}
 	}
 	defer rows.Close()
+	hidden := f.scans.done[sheet].hidden
+	var extras []string
+	var hiddenRead []int
+	read := func(n int) {
+		for len(hidden) > 0 && hidden[0] < int64(n) {
+			hidden = hidden[1:]
+		}
+		if len(hidden) > 0 && hidden[0] == int64(n) {
+			hiddenRead = append(hiddenRead, n)
+		}
+	}
+	warnings := func() []string {
+		var out []string
+		where := fmt.Sprintf("%s['%s']", path, sheet)
+		if w := siteExtrasWarning(where, extras); w != "" {
+			out = append(out, w)
+		}
+		if w := hiddenRowsWarning(where, hiddenRead); w != "" {
+			out = append(out, w)
+		}
+		return out
+	}
 	headerRead := false
 	for n := 1; rows.Next(); n++ {
 		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
-			return meta, &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
+			return meta, warnings(), &ParseError{File: path, Sheet: sheet, Row: n, Err: err}
 		}
 		if blank(rec) {
 			continue
 		}
 		f.shown(sheet, n, rec)
-		if m, ok := siteRow(meta, rec, true, headerRead); ok {
+		if m, extra, ok := siteRow(meta, rec, true, headerRead); ok {
 			meta = m
+			for _, c := range extra {
+				name, _ := excelize.CoordinatesToCellName(c+1, n)
+				extras = append(extras, name)
+			}
 			continue
 		}
+		read(n)
 		stop, err := each(n, rec, !headerRead)
 		if err != nil {
-			return meta, err
+			return meta, warnings(), err
 		}
 		headerRead = true
 		if stop {
@@ -889,9 +923,34 @@ func (f *inputBook) sheetRows(path, sheet string, meta map[string]string, each f
 		}
 	}
 	if err := rows.Error(); err != nil {
-		return meta, &ParseError{File: path, Sheet: sheet, Err: err}
+		return meta, warnings(), &ParseError{File: path, Sheet: sheet, Err: err}
 	}
-	return meta, nil
+	return meta, warnings(), nil
+}
+
+// maxHiddenListed bounds how many hidden rows a warning lists.
+const maxHiddenListed = 10
+
+// hiddenRowsWarning is the warning of the hidden rows of a sheet that
+// were read (rows, rising), "" when none were: a hidden row is data the
+// crew kept, so it is read, but it may be a shot set aside. where is the
+// file and sheet.
+func hiddenRowsWarning(where string, rows []int) string {
+	if len(rows) == 0 {
+		return ""
+	}
+	var list []string
+	for i, r := range rows {
+		if i == maxHiddenListed {
+			list = append(list, fmt.Sprintf("and %d more", len(rows)-maxHiddenListed))
+			break
+		}
+		list = append(list, strconv.Itoa(r))
+	}
+	n := len(rows)
+	return fmt.Sprintf("%s: %s %s %s hidden in the sheet but read, as every row is: delete %s if %s not meant to be read", where,
+		rating.Agree(n, "row", "rows"), strings.Join(list, ", "), rating.Agree(n, "is", "are"),
+		rating.Agree(n, "it", "them"), rating.Agree(n, "it is", "they are"))
 }
 
 func blank(rec []string) bool {
@@ -1019,7 +1078,8 @@ func (t *Table) unreadWarning(rec Record, c int, why string) string {
 
 // ownWarnings returns a copy of the table's warnings, to begin the
 // warnings of what is read from it: every reader of a table carries them
-// (a hidden sheet named, '#' lines holding values), however it was read.
+// (a hidden sheet named, hidden rows read, cells beside the site block,
+// '#' lines holding values), however it was read.
 func (t *Table) ownWarnings() []string {
 	return slices.Clone(t.Warnings)
 }
@@ -1253,6 +1313,12 @@ type SheetSurvey struct {
 	Err error
 	// Hidden reports a sheet hidden in the workbook.
 	Hidden bool
+	// Other says why a sheet that could be read holds no survey: the
+	// kind of table its header plainly makes it ("a reach table", "a
+	// table of gaugings", see Sniff), or that its first row names no
+	// station and elevation columns (the row's first cells quoted), or
+	// that it is empty; "" for a survey.
+	Other string
 }
 
 // SurveySheets tells, for every sheet of a workbook in workbook order,
@@ -1275,10 +1341,13 @@ func SurveySheetsWarn(path string) ([]SheetSurvey, []string, error) {
 	defer f.Close()
 	var out []SheetSurvey
 	for _, sheet := range f.GetSheetList() {
-		ok, err := hasSurveyHeader(f.File, sheet)
+		ok, header, err := hasSurveyHeader(f.File, sheet)
 		s := SheetSurvey{Sheet: sheet, Survey: ok && err == nil, Hidden: !sheetVisible(f.File, sheet)}
-		if err != nil {
+		switch {
+		case err != nil:
 			s.Err = &ParseError{File: path, Sheet: sheet, Err: err}
+		case !ok:
+			s.Other = notSurvey(header)
 		}
 		out = append(out, s)
 	}
@@ -1287,26 +1356,47 @@ func SurveySheetsWarn(path string) ([]SheetSurvey, []string, error) {
 
 // hasSurveyHeader reports whether the header of a sheet, its first
 // non-blank row below the key rows of its site block (see metaRow), names
-// station (or easting and northing) and elevation columns.
-func hasSurveyHeader(f *excelize.File, sheet string) (bool, error) {
+// station (or easting and northing) and elevation columns. The header is
+// returned (nil for a sheet with none).
+func hasSurveyHeader(f *excelize.File, sheet string) (bool, []string, error) {
 	rows, err := f.Rows(sheet)
 	if err != nil {
-		return false, err
+		return false, nil, err
 	}
 	defer rows.Close()
 	for rows.Next() {
 		rec, err := rows.Columns(excelize.Options{RawCellValue: true})
 		if err != nil {
-			return false, err
+			return false, nil, err
 		}
-		if _, taken := siteRow(nil, rec, true, false); blank(rec) || taken {
+		if _, _, taken := siteRow(nil, rec, true, false); blank(rec) || taken {
 			continue
 		}
 		t := &Table{Header: trimAll(rec)}
 		coords := hasCoordinates(t)
-		return (t.Column(ColStation) >= 0 || coords) && t.Column(elevationNames()...) >= 0, nil
+		return (t.Column(ColStation) >= 0 || coords) && t.Column(elevationNames()...) >= 0, t.Header, nil
 	}
-	return false, rows.Error()
+	return false, nil, rows.Error()
+}
+
+// notSurvey says why a sheet with this header (nil for none) holds no
+// survey, for SheetSurvey.Other.
+func notSurvey(header []string) string {
+	if header == nil {
+		return "an empty sheet"
+	}
+	if kind := sniffTable(&Table{Header: header}).Other; kind != "" {
+		return kind
+	}
+	for len(header) > 0 && header[len(header)-1] == "" {
+		header = header[:len(header)-1]
+	}
+	const shown = 4
+	list := headerList(header[:min(len(header), shown)])
+	if len(header) > shown {
+		list += ", …"
+	}
+	return fmt.Sprintf("its first row (%s) names no station and elevation columns", list)
 }
 
 // maxListed bounds how many header names a message lists.

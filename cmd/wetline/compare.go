@@ -99,7 +99,7 @@ func runCompare(ctx context.Context, e *env, args []string) error {
 func (f *compareFlags) kinds(a, b string) (survey.TableKind, error) {
 	var ks [2]survey.TableKind
 	for i, in := range []struct{ path, sheet, flag string }{{a, f.sheetA, "--sheet-a"}, {b, f.sheetB, "--sheet-b"}} {
-		t, err := survey.ReadTable(in.path, in.sheet)
+		t, err := survey.ReadRatingTable(in.path, in.sheet)
 		if err != nil {
 			return 0, err
 		}

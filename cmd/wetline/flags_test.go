@@ -219,7 +219,7 @@ func TestPlainMessages(t *testing.T) {
 		{"a flag given twice", []string{"fit", xs, "--sheet", "a", "--sheet", "b"}, 2, "fit: --sheet is given twice: give it once"},
 		{"a list flag given twice", []string{"rate", xs, "--slope", "0.001", "--stages", "1,2", "--stages", "3"}, 2, "--stages is given twice"},
 		{"-o given twice", []string{"rate", xs, "--slope", "0.001", "-o", p("a.csv"), "--output", p("b.csv")}, 2, "-o (--output) is given twice"},
-		{"compare a results workbook's summary", []string{"compare", p("r.xlsx"), p("r.xlsx")}, 1, "r.xlsx['summary'] is a table that is neither a rating nor a survey"},
+		{"compare a results workbook's summary", []string{"compare", p("r.xlsx"), p("r.xlsx"), "--sheet-a", "summary", "--sheet-b", "summary"}, 1, "r.xlsx['summary'] is a table that is neither a rating nor a survey"},
 	} {
 		if tc.args[0] == "compare" {
 			if _, errs, code := runCLI(t, "rate", xs, "--slope", "0.001", "-o", p("r.xlsx")); code != 0 {

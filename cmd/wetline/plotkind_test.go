@@ -151,7 +151,7 @@ func TestPlotResultsWorkbookKinds(t *testing.T) {
 		t.Errorf("plot of a fit workbook: exit %d: %s", code, errs)
 	}
 	_, errs, code := runCLI(t, "plot", recBook, "-o", out)
-	if want := recBook + ": a results workbook with no rating table to redraw"; code != 1 || !strings.Contains(errs, want) ||
+	if want := recBook + ": a results workbook with no rating table"; code != 1 || !strings.Contains(errs, want) ||
 		!strings.Contains(errs, "its ratings sheet lists every rating period used together") || strings.Contains(errs, "--table-sheet") {
 		t.Errorf("plot of a record workbook: exit %d: %s\nwant %q", code, errs, want)
 	}

@@ -248,9 +248,11 @@ func surveyFiles(dir string) ([]string, error) {
 // sheet, or every visible survey sheet of a workbook, each sheet that
 // cannot be read being a failing job of its own; and the warnings of a
 // workbook as a whole (its links to other workbooks, given here once and
-// not with each sheet rated: see survey.OpenBook) and those naming hidden
+// not with each sheet rated: see survey.OpenBook), those naming hidden
 // survey sheets passed over (a named sheet that is hidden is read, and
-// the section's own warnings say so).
+// the section's own warnings say so), and one listing every other sheet
+// not rated with its reason (not a survey table, and what it is; or
+// refused, and its error).
 func fileJobs(path, sheet string) ([]Job, []string) {
 	base := strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 	if !survey.IsWorkbook(path) {
@@ -265,22 +267,45 @@ func fileJobs(path, sheet string) ([]Job, []string) {
 		return []Job{{Path: path, Sheet: sheet, Name: sheet}}, warnings
 	}
 	var jobs []Job
-	var hidden []string
+	var hidden, others []string
 	for _, s := range sheets {
 		switch {
 		case s.Hidden && (s.Survey || s.Err != nil):
 			hidden = append(hidden, "'"+s.Sheet+"'")
 		case s.Survey || s.Err != nil:
 			jobs = append(jobs, Job{Path: path, Sheet: s.Sheet, Name: s.Sheet, Err: s.Err})
+			if s.Err != nil {
+				others = append(others, fmt.Sprintf("'%s' (refused: %s)", s.Sheet, refusal(s.Err)))
+			}
+		case s.Hidden:
+			others = append(others, fmt.Sprintf("'%s' (hidden, not a survey table: %s)", s.Sheet, s.Other))
+		default:
+			others = append(others, fmt.Sprintf("'%s' (not a survey table: %s)", s.Sheet, s.Other))
 		}
 	}
 	if len(hidden) > 0 {
 		warnings = append(warnings, fmt.Sprintf("%s: %s %s not read: name one with --sheet to read it", path, rating.Agree(len(hidden), "hidden sheet", "hidden sheets"), strings.Join(hidden, ", ")))
 	}
+	if len(others) > 0 {
+		warnings = append(warnings, fmt.Sprintf("%s: %s not rated: %s", path, rating.Counted(len(others), "sheet", "sheets"), strings.Join(others, "; ")))
+	}
 	if len(jobs) == 0 {
 		return []Job{{Path: path, Name: base, Err: fmt.Errorf("%s: %w", path, ErrNoSurveySheet)}}, warnings
 	}
 	return jobs, warnings
+}
+
+// refusal is the error of a sheet that cannot be read, without the file
+// and sheet its ParseError names (the warning naming the sheet says them).
+func refusal(err error) string {
+	var pe *survey.ParseError
+	if errors.As(err, &pe) && pe.Err != nil {
+		if pe.Row > 0 {
+			return fmt.Sprintf("row %d: %v", pe.Row, pe.Err)
+		}
+		return pe.Err.Error()
+	}
+	return err.Error()
 }
 
 // ErrNoSurveySheet is the cause of a workbook none of whose sheets holds

@@ -971,3 +971,35 @@ func TestListSkipsStageRecordsAndShiftTables(t *testing.T) {
 		})
 	}
 }
+
+// Every sheet of a workbook not rated is named in one warning with its
+// reason: tables of other kinds, sheets whose first row names no survey
+// columns, and sheets refused.
+func TestListNamesSheetsNotRated(t *testing.T) {
+	f := excelize.NewFile()
+	f.SetSheetName("Sheet1", "XS-1")
+	f.SetSheetRow("XS-1", "A1", &[]any{"station", "elevation", "n"})
+	f.SetSheetRow("XS-1", "A2", &[]any{0, 1, 0.03})
+	f.SetSheetRow("XS-1", "A3", &[]any{1, 0})
+	f.SetSheetRow("XS-1", "A4", &[]any{2, 1})
+	f.NewSheet("reach")
+	f.SetSheetRow("reach", "A1", &[]any{"section", "survey", "distance"})
+	f.NewSheet("instructions")
+	f.SetSheetRow("instructions", "A1", &[]any{"topic", "what to enter"})
+	path := filepath.Join(t.TempDir(), "book.xlsx")
+	if err := f.SaveAs(path); err != nil {
+		t.Fatal(err)
+	}
+	jobs, _, warnings, err := batch.ListWarn([]string{path}, "", "csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(jobs) != 1 || jobs[0].Sheet != "XS-1" {
+		t.Errorf("jobs %+v, want XS-1", jobs)
+	}
+	if len(warnings) != 1 || !strings.Contains(warnings[0], "2 sheets not rated") ||
+		!strings.Contains(warnings[0], "'reach' (not a survey table: a reach table)") ||
+		!strings.Contains(warnings[0], "'instructions' (not a survey table: its first row") {
+		t.Errorf("warnings %q, want one naming reach and instructions with their reasons", warnings)
+	}
+}
