@@ -119,8 +119,7 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 	p.Legend.Top = true
 	legendCorner(p, append(gaugingXYs(pts), applied...))
 	err := render(w, size, shiftFigure(c, site, "shifts against time"), func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
+		return drawPanel(p, cv)
 	})
 	return res, err
 }
@@ -230,8 +229,7 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 	p.Legend.Top, p.Legend.Left = true, true
 	legendCorner(p, gaugingXYs(pts))
 	err := render(w, size, shiftFigure(c, site, "shifts against stage"), func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
+		return drawPanel(p, cv)
 	})
 	return res, err
 }
