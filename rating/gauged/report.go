@@ -230,7 +230,9 @@ var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's
 // stage. Stages are gauge heights in the length unit of opt.Units (a
 // section's Datum relates its elevations to them) and discharges are in
 // its discharge unit. The report gathers the warnings of every part; a
-// calibration that finds no gauging to use, and a lookup out of range,
+// calibration that finds no gauging to use, or whose best factor makes n
+// implausible (PlausibleN.Check, which rate's calibration refuses: here
+// the calibration is left out of the report), and a lookup out of range,
 // are warnings, not errors.
 //
 // Preconditions: CompareOnly and ZeroFlowControl need opt.Hydraulic or
@@ -348,6 +350,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		cal, err := calibrate(gs, *c, opt.ChannelOnly, opt.Controls.Selection)
 		if err != nil && !errors.Is(err, ErrCalibrate) {
 			return err
+		}
+		if err == nil {
+			err = PlausibleN.Check(cal, *c) // as rate --calibrate refuses it, a warning here: the fit does not rest on it
 		}
 		r.Warnings = append(r.Warnings, cal.Warnings...)
 		if err == nil {
