@@ -57,3 +57,51 @@ func TestPlausibleNFactorNotFinite(t *testing.T) {
 		}
 	}
 }
+
+// A gauging with flow further below the section's lowest point than the
+// section is high is refused before any fit starts, by least squares and
+// by Bayesian inference alike, naming it: the compound section runs
+// from 10 to 13 m, 0.5 to 3.5 on the gauge at datum 9.5, so a gauging at
+// −2.6 lies 3.1 m below its lowest point (refused), one at −2.4 2.9 m
+// below (compared, with Compare's warning), and one left out or without
+// flow is not checked.
+func TestAnalyzeGaugingFarBelowSection(t *testing.T) {
+	p := compound(t, 0.03, 0.05)
+	c := rating.HydraulicCurve{Geometry: p, Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	for _, tc := range []struct {
+		name    string
+		g       gauged.Gauging
+		refused bool
+	}{
+		{"far below", gauged.Gauging{Stage: -2.6, Discharge: 45.2, Quality: rating.Good, Source: "g.csv:7"}, true},
+		{"below, within the section's height", gauged.Gauging{Stage: -2.4, Discharge: 45.2, Quality: rating.Good, Source: "g.csv:7"}, false},
+		{"far below, left out", gauged.Gauging{Stage: -2.6, Discharge: 45.2, Quality: rating.Good, Source: "g.csv:7", Exclude: "slip"}, false},
+		{"far below, dry", gauged.Gauging{Stage: -2.6, Discharge: 0, Quality: rating.Good, Source: "g.csv:7"}, false},
+	} {
+		for _, m := range []gauged.Method{gauged.LeastSquares, gauged.Bayesian} {
+			gs := append(sample(t, p, []float64{1.0, 1.6, 2.2, 2.7, 3.1}), tc.g)
+			for i := range gs[:5] {
+				gs[i].Time = gs[i].Time.AddDate(0, i, 0)
+			}
+			_, err := gauged.Analyze(gs, gauged.Options{Hydraulic: &c, Method: m, CompareOnly: !tc.refused,
+				Bayes: gauged.BayesOptions{Draws: 100, Chains: 2, Seed: 1}})
+			far := errors.Is(err, gauged.ErrGaugingFarBelowSection)
+			if far != tc.refused || tc.refused && !strings.Contains(err.Error(), "g.csv:7: gauge height -2.6") {
+				t.Errorf("%s, %v: %v", tc.name, m, err)
+			}
+		}
+	}
+}
+
+// R̂ that is not a finite number (chains that never moved) is worded
+// "not determined", not +Inf.
+func TestRHatText(t *testing.T) {
+	for _, tc := range []struct {
+		v    float64
+		want string
+	}{{1.2381, "1.24"}, {1, "1"}, {math.Inf(1), "not determined"}, {math.NaN(), "not determined"}} {
+		if got := gauged.RHatText(tc.v); got != tc.want {
+			t.Errorf("RHatText(%g) = %q, want %q", tc.v, got, tc.want)
+		}
+	}
+}

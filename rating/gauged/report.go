@@ -220,6 +220,12 @@ var ErrTableFlowsAtFoot = errors.New("the hydraulic rating table does not say wh
 // elevations is likely missing or wrong.
 var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's stage range")
 
+// ErrGaugingFarBelowSection is the cause of a gauging with flow that lies
+// further below the section's lowest point than the section is high: no
+// water flows through the section there, and no scour or missed pool
+// puts the bed so deep, so its gauge height or the datum is a slip.
+var ErrGaugingFarBelowSection = errors.New("a gauging with flow lies far below the section")
+
 // Analyze compares, calibrates and fits gaugings as opt says: the
 // comparison with the hydraulic rating (a section's or a table's;
 // Compare, CompareTable), the n back-calculation (a section; Calibrate),
@@ -334,6 +340,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		c := ref.sec
 		r.Datum, r.Slope = c.Datum, c.Options.Slope
 		if err := withinSection(gs, *c); err != nil {
+			return err
+		}
+		if err := farBelowSection(gs, *c); err != nil {
 			return err
 		}
 		r.HydraulicSource = "section"
@@ -530,6 +539,25 @@ func (r *Report) curve(c *rating.HydraulicCurve) error {
 		r.Curve = append(r.Curve, p)
 	}
 	return nil
+}
+
+// farBelowSection refuses each gauging kept for the fit (Exclude blank)
+// whose discharge is above zero at a gauge height further below the
+// section's lowest point than the section is high, from its lowest point
+// to its lower end (ErrGaugingFarBelowSection, naming each): the check
+// every fit on a section passes, by least squares or Bayesian inference,
+// before either starts. A gauging nearer the bed is warned of by Compare.
+func farBelowSection(gs []Gauging, c rating.HydraulicCurve) error {
+	bottom, top := c.Bottom(), c.Top()
+	var errs []error
+	for _, g := range gs {
+		if g.Exclude == "" && g.Discharge > 0 && bottom-g.Stage > top-bottom {
+			errs = append(errs, errorf("%w: %s: gauge height %g (elevation %g at datum %g) with %g %s is %s %s below the section's lowest point (%s on the gauge), which is %s %s high: check the gauge height and --datum",
+				ErrGaugingFarBelowSection, g.label(), g.Stage, g.Stage+c.Datum, c.Datum, g.Discharge, c.Options.Units.Discharge(),
+				rating.PlainFigures(bottom-g.Stage, 4), c.Options.Units.Length(), gh(bottom), rating.PlainFigures(top-bottom, 3), c.Options.Units.Length()))
+		}
+	}
+	return errors.Join(errs...)
 }
 
 // withinSection returns ErrGaugingsOutsideSection, with the ranges, when no
