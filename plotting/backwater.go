@@ -102,6 +102,9 @@ func BackwaterProfiles(w io.Writer, r BackwaterPlot) (Result, error) {
 	fig := figure{title: titleOf(r.Site, r.Reach, "step-backwater profiles"), subtitle: sub,
 		foot: append(append([]string(nil), r.Notes...), orDefault(r.Caution, DefaultBackwaterCaution))}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {
+		if err := drawable(p); err != nil {
+			return err
+		}
 		drawSideLegend(c, p, leg.labels)
 		return nil
 	})
@@ -385,8 +388,7 @@ func CompareRatings(w io.Writer, r RatingComparison) (Result, error) {
 		return res, err
 	}
 	err = render(w, r.Size, fig, func(c draw.Canvas) error {
-		p.Draw(c)
-		return nil
+		return drawPanel(p, c)
 	})
 	return res, err
 }

@@ -102,8 +102,7 @@ func percentRange(base, pct []float64) (lo, hi float64, clipped bool) {
 func renderComparison(w io.Writer, size Size, title, subtitle string, clipped bool, left, right *plot.Plot) error {
 	fig := figure{title: title, subtitle: subtitle, foot: compareFoot(clipped), footColor: colCaution}
 	return render(w, size, fig, func(cv draw.Canvas) error {
-		drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
-		return nil
+		return drawRow(cv, []*plot.Plot{left, right}, vg.Points(22))
 	})
 }
 

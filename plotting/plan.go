@@ -89,8 +89,7 @@ func Plan(w io.Writer, pp PlanPlot) (Result, error) {
 		foot: append(append([]string(nil), pp.Notes...), DefaultCaution)}
 	err = render(w, pp.Size, fig, func(c draw.Canvas) error {
 		setEqualScale(p, c)
-		p.Draw(c)
-		return nil
+		return drawPanel(p, c)
 	})
 	return res, err
 }

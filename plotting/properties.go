@@ -64,11 +64,13 @@ func PropertiesFromTable(t rating.Table) []PropertyRow {
 // mean velocity against stage, one panel each, as a PNG into w, in the
 // units of pp.Units (stage in the length unit). Rows without a finite
 // stage are left out; a NaN value breaks its panel's line, and a panel
-// whose values are all undefined is left out with a warning. With a
+// whose values are all undefined, or whose axis would run beyond what a
+// float64 holds (see ErrRange), is left out with a warning. With a
 // finite bankfull stage, the overbank zone above it is shaded and
 // bankfull marked on every panel. The caution is at the foot. The error
 // wraps ErrNoData when no row has a stage or no property a defined value,
-// and ErrSize or ErrDraw when the figure cannot be drawn.
+// ErrRange when every panel with values was left out for its range, and
+// ErrSize or ErrDraw when the figure cannot be drawn.
 func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 	var res Result
 	un := names(pp.Units)
@@ -77,15 +79,24 @@ func Properties(w io.Writer, pp PropertiesPlot) (Result, error) {
 		return res, fmt.Errorf("%w: the properties figure needs rows with a stage", ErrNoData)
 	}
 	var panels []*plot.Plot
+	var unDrawable error // the last panel left out by drawable
 	for _, q := range propertyQuantities(un) {
 		p, ok := pp.panel(q, rows)
 		if !ok {
 			res.Warnings = append(res.Warnings, q.title+": no defined values; panel left out")
 			continue
 		}
+		if err := drawable(p); err != nil {
+			res.Warnings = append(res.Warnings, q.title+": values span a range that cannot be drawn; panel left out")
+			unDrawable = err
+			continue
+		}
 		panels = append(panels, p)
 	}
-	if len(panels) == 0 {
+	switch {
+	case len(panels) == 0 && unDrawable != nil:
+		return res, unDrawable
+	case len(panels) == 0:
 		return res, fmt.Errorf("%w: no property has a defined value", ErrNoData)
 	}
 	cols := 3

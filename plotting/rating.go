@@ -226,8 +226,7 @@ func Rating(w io.Writer, r RatingPlot) (Result, error) {
 		footColor: colCaution,
 	}
 	err := render(w, r.Size, fig, func(c draw.Canvas) error {
-		drawRow(c, panels, vg.Points(22))
-		return nil
+		return drawRow(c, panels, vg.Points(22))
 	})
 	return res, err
 }

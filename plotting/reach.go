@@ -137,8 +137,7 @@ func ReachProfile(w io.Writer, r ReachPlot) (Result, error) {
 	err = render(w, r.Size, fig, func(c draw.Canvas) error {
 		// Between the water surface near the top and the bed below.
 		p.Legend.YOffs = -0.3 * (c.Max.Y - c.Min.Y)
-		p.Draw(c)
-		return nil
+		return drawPanel(p, c)
 	})
 	return res, err
 }
@@ -349,8 +348,7 @@ func ReachSections(w io.Writer, r ReachPlot) (Result, error) {
 	}
 	fig := figure{title: titleOf(r.Site, r.Reach, "slope-area sections overlaid"), subtitle: sub, foot: r.foot()}
 	err = render(w, r.Size, fig, func(c draw.Canvas) error {
-		p.Draw(c)
-		return nil
+		return drawPanel(p, c)
 	})
 	return res, err
 }

@@ -354,6 +354,9 @@ func hydrograph(w io.Writer, res *record.Result, site string, size Size) (Result
 		footColor: colCaution,
 	}
 	err := render(w, size, fig, func(c draw.Canvas) error {
+		if err := drawable(top, bottom); err != nil {
+			return err
+		}
 		tiles := draw.Tiles{Rows: 2, Cols: 1, PadY: vg.Points(14)}
 		canvases := plot.Align([][]*plot.Plot{{top}, {bottom}}, tiles, c)
 		top.Draw(canvases[0][0])

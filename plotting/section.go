@@ -107,8 +107,7 @@ func CrossSection(w io.Writer, s SectionPlot) (Result, error) {
 		foot: append(foot, orDefault(s.Caution, DefaultCaution)), footColor: colCaution}
 	err = render(w, s.Size, fig, func(c draw.Canvas) error {
 		setExaggeration(p, c)
-		p.Draw(c)
-		return nil
+		return drawPanel(p, c)
 	})
 	return res, err
 }

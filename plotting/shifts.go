@@ -157,8 +157,7 @@ func shiftTimeFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size) 
 		return res, err
 	}
 	err = render(w, size, fig, func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
+		return drawPanel(p, cv)
 	})
 	return res, err
 }
@@ -306,8 +305,7 @@ func shiftStageFigure(w io.Writer, c *gauged.ShiftCheck, site string, size Size)
 		return res, err
 	}
 	err = render(w, size, fig, func(cv draw.Canvas) error {
-		p.Draw(cv)
-		return nil
+		return drawPanel(p, cv)
 	})
 	return res, err
 }

@@ -54,6 +54,11 @@ var ErrDraw = errors.New("plotting: drawing failed")
 // ErrNoData is returned when a figure has nothing to draw.
 var ErrNoData = errors.New("plotting: nothing to draw")
 
+// ErrRange is returned for a panel whose axis would run to a value that
+// is not finite, or over a span too wide for a float64 (values near
+// ±1.8e308): such a range cannot be divided into ticks or scaled.
+var ErrRange = errors.New("plotting: values span a range that cannot be drawn")
+
 // Check reports a size outside the bounds (ErrSize), after filling in
 // the defaults for zero fields.
 func (s Size) Check() error {
@@ -417,12 +422,48 @@ func unsignedZero(s string) string {
 	return s
 }
 
-// drawRow draws panels side by side in equal tiles.
-func drawRow(c draw.Canvas, panels []*plot.Plot, gap vg.Length) {
+// drawRow draws panels side by side in equal tiles, none when one of
+// them cannot be drawn (drawable's error).
+func drawRow(c draw.Canvas, panels []*plot.Plot, gap vg.Length) error {
+	if err := drawable(panels...); err != nil {
+		return err
+	}
 	tiles := draw.Tiles{Rows: 1, Cols: len(panels), PadX: gap}
 	for i, p := range panels {
 		p.Draw(tiles.At(c, i, 0))
 	}
+	return nil
+}
+
+// drawPanel draws p into c, or returns drawable's error without drawing.
+func drawPanel(p *plot.Plot, c draw.Canvas) error {
+	if err := drawable(p); err != nil {
+		return err
+	}
+	p.Draw(c)
+	return nil
+}
+
+// drawable checks the axes of panels before they are handed to the
+// plotting library: each must run between finite values over a finite
+// span, or its ticks and scale are not defined (ErrRange, naming the
+// panel's title and the axis).
+func drawable(panels ...*plot.Plot) error {
+	for _, p := range panels {
+		for _, a := range []struct {
+			name     string
+			min, max float64
+		}{{"horizontal", p.X.Min, p.X.Max}, {"vertical", p.Y.Min, p.Y.Max}} {
+			if !finite(a.min, a.max, a.max-a.min) {
+				what := "a panel"
+				if p.Title.Text != "" {
+					what = p.Title.Text
+				}
+				return fmt.Errorf("%w: %s, %s axis from %g to %g", ErrRange, what, a.name, a.min, a.max)
+			}
+		}
+	}
+	return nil
 }
 
 // haloText draws text on a translucent white patch so it stays readable

@@ -90,6 +90,11 @@ type linearTicks struct{ n int }
 // targetTicks is the number of labelled marks a linear axis aims for.
 const targetTicks = 7
 
+// maxLinearTicks bounds the marks of one linear axis: a step rounded to
+// 1, 2 or 5 gives at most about 4n of them, so more means a range the
+// step does not divide (one whose span overflows, say).
+const maxLinearTicks = 1000
+
 func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 	if !finite(min, max) || !(max > min) {
 		return nil
@@ -99,12 +104,15 @@ func (lt linearTicks) Ticks(min, max float64) []plot.Tick {
 		n = targetTicks
 	}
 	step := niceStep((max - min) / float64(n))
-	var out []plot.Tick
 	half := step / 2
+	if !finite(max-min, step) || !(half > 0) || (max-min)/half > maxLinearTicks {
+		return nil // a span beyond a float64, or one a step cannot divide
+	}
+	var out []plot.Tick
 	start := math.Ceil(min/half-tickEpsilon) * half
-	for i := 0; ; i++ {
+	for i := 0; i <= maxLinearTicks; i++ {
 		v := start + float64(i)*half
-		if v > max+half*tickEpsilon {
+		if v-max > half*tickEpsilon { // not v > max+…, which overflows near the largest float64
 			break
 		}
 		t := plot.Tick{Value: v}

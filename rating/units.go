@@ -96,3 +96,8 @@ const FeetPerMetre = 1 / 0.3048
 // far above any river's flood (the largest are near 3·10⁵ m³/s), so a
 // larger number is a typing slip.
 const MaxDischarge = 1e8
+
+// MinN and MaxN bound a plausible Manning's n (dimensionless): below
+// 0.005 no channel is so smooth, above 1 the value is not an n (common
+// practice).
+const MinN, MaxN = 0.005, 1.0

@@ -2,6 +2,8 @@ package survey
 
 import (
 	"errors"
+	"fmt"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -86,6 +88,56 @@ func TestShiftDiagramBounds(t *testing.T) {
 		var pe *ParseError
 		if !errors.Is(err, ErrImplausible) || !errors.As(err, &pe) || !strings.Contains(err.Error(), tc.at) {
 			t.Errorf("%s: %v, want ErrImplausible at %s", tc.name, err, tc.at)
+		}
+	}
+}
+
+// The property columns of a rating table, as plot reads them back, are
+// bounded as its stage and discharge are (MaxArea and the others): a
+// value beyond its bound is refused at its cell, one at the bound read.
+func TestRatingPropertyBounds(t *testing.T) {
+	t.Parallel()
+	for _, f := range ratingFields() {
+		for _, tc := range []struct {
+			v  string
+			ok bool
+		}{
+			{strconv.FormatFloat(f.limit, 'g', -1, 64), true},
+			{strconv.FormatFloat(-f.limit, 'g', -1, 64), true},
+			{strconv.FormatFloat(f.limit*1.5, 'g', -1, 64), false},
+			{"1.7976931348623157e308", false},
+			{"-1e308", false},
+		} {
+			csv := "stage,discharge," + f.name + "\n100.5,1,1\n101,5," + tc.v + "\n101.5,10,2\n"
+			_, err := ParseRatingCSV(strings.NewReader(csv), "r.csv", UnitChoice{})
+			at := "r.csv:3:3: " + f.name + " \"" + tc.v + "\": " + strings.ReplaceAll(f.name, "_", " ")
+			switch {
+			case tc.ok && err != nil:
+				t.Errorf("%s %s: %v", f.name, tc.v, err)
+			case !tc.ok && (!errors.Is(err, ErrImplausible) || !strings.Contains(fmt.Sprint(err), at)):
+				t.Errorf("%s %s: %v, want ErrImplausible at %s", f.name, tc.v, err, at)
+			}
+		}
+	}
+}
+
+// A fit's bands and hydraulic discharges read back are bounded as
+// discharges are (rating.MaxDischarge), at their cell.
+func TestFitRowsBounds(t *testing.T) {
+	t.Parallel()
+	for _, col := range []string{ColFitLower, ColFitUpper, ColFitTotalLower, ColFitTotalUpper, "hydraulic"} {
+		csv := "stage,discharge,basis," + col + "\n1,1,fit,1\n2,5,fit,1e308\n"
+		tb, err := ParseCSV(strings.NewReader(csv), "r.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		rt, err := RatingFromTable(tb, UnitChoice{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = FitRowsFromTable(tb, rt)
+		if !errors.Is(err, ErrImplausible) || errors.Is(err, ErrFitBasis) || !strings.Contains(fmt.Sprint(err), "r.csv:3:4: ") {
+			t.Errorf("%s 1e308: %v, want ErrImplausible at r.csv:3:4", col, err)
 		}
 	}
 }

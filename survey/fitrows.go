@@ -60,8 +60,9 @@ func fitBases() []gauged.Basis {
 // parametric_upper_95, else lower_95 and upper_95) and of one discharge
 // (total_lower_95 and total_upper_95), NaN where blank or absent. It
 // returns nil for a table with neither a basis nor an extrapolated
-// column (not a fit's). A basis no fit writes is ErrFitBasis and a bad
-// bound a number error, each a *ParseError at its cell.
+// column (not a fit's). A basis no fit writes is ErrFitBasis, a bad
+// bound a number error and a bound or hydraulic discharge beyond
+// ±rating.MaxDischarge ErrImplausible, each a *ParseError at its cell.
 func FitRowsFromTable(t *Table, rt rating.Table) ([]gauged.ControlRow, error) {
 	cb, cx := t.Column(ColFitBasis), t.Column(ColRatingExtrapolated)
 	if cb < 0 && cx < 0 {
@@ -79,9 +80,9 @@ func FitRowsFromTable(t *Table, rt rating.Table) ([]gauged.ControlRow, error) {
 	within := false // a row within the gaugings read
 	for i, rec := range t.Records {
 		r := gauged.ControlRow{Stage: rt.Rows[i].Stage, Discharge: rt.Rows[i].Discharge,
-			ParametricLower: cells.optional(rec, lower), ParametricUpper: cells.optional(rec, upper),
-			TotalLower: cells.optional(rec, ColFitTotalLower), TotalUpper: cells.optional(rec, ColFitTotalUpper),
-			Hydraulic: cells.optional(rec, "hydraulic")}
+			ParametricLower: cells.optional(rec, lower, rating.MaxDischarge), ParametricUpper: cells.optional(rec, upper, rating.MaxDischarge),
+			TotalLower: cells.optional(rec, ColFitTotalLower, rating.MaxDischarge), TotalUpper: cells.optional(rec, ColFitTotalUpper, rating.MaxDischarge),
+			Hydraulic: cells.optional(rec, "hydraulic", rating.MaxDischarge)}
 		word, known := strings.TrimSpace(t.Cell(rec, cb)), false
 		for _, b := range fitBases() {
 			if word != "" && strings.EqualFold(word, b.String()) {

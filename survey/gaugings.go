@@ -54,6 +54,14 @@ type Gaugings struct {
 	Times TimeForm
 }
 
+// MinGaugedDischarge is the smallest discharge above zero a gauging may
+// hold, in the file's units (m³/s or ft³/s): the smallest flows gauged,
+// by volume or a small flume, are of the order of 1e-4 m³/s (a tenth of
+// a litre a second; common practice), so a smaller one is a slip (a unit,
+// a lost exponent), and one near the smallest float64 makes every ratio
+// with it infinite. Zero, a dry channel, is read.
+const MinGaugedDischarge = 1e-6
+
 // Causes of gauging errors, for errors.Is.
 var (
 	ErrNegativeDischarge = errors.New("discharge must not be negative")
@@ -129,7 +137,8 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // time (ErrBlankTime; ErrISOTime, ErrAmbiguousDate, ErrSubSecond or
 // ErrSerialInCSV, see ParseTime), stage or discharge (ErrNotNumber,
 // ErrThousands, ErrDecimalComma, ErrPercent, ErrImplausible
-// beyond MaxElevation or rating.MaxDischarge), a negative discharge
+// beyond MaxElevation or rating.MaxDischarge, or a discharge above zero
+// below MinGaugedDischarge), a negative discharge
 // (ErrNegativeDischarge), an unknown quality word, an uncertainty that is
 // not a number in range (ErrUncertainty), and a time given twice
 // (ErrDuplicateTime; times with offsets compare as instants), a year
@@ -336,8 +345,12 @@ func (rd *gaugingReader) row(rec Record) (gauged.Gauging, bool) {
 	okAll = okAll && ok
 	g.Discharge, ok = rd.number(rec, c.discharge, "discharge", rating.MaxDischarge)
 	okAll = okAll && ok
-	if ok && g.Discharge < 0 {
+	switch {
+	case ok && g.Discharge < 0:
 		rd.add(rec, c.discharge, ErrNegativeDischarge)
+	case ok && g.Discharge > 0 && g.Discharge < MinGaugedDischarge:
+		rd.add(rec, c.discharge, fmt.Errorf("discharge %g %w (above 0 but below %g)", g.Discharge, ErrImplausible, MinGaugedDischarge))
+		okAll = false
 	}
 	if c.quality >= 0 {
 		q, err := rating.ParseQuality(t.Cell(rec, c.quality))

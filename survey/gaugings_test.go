@@ -44,6 +44,8 @@ func TestParseGaugingsErrors(t *testing.T) {
 		is       error
 	}{
 		{"negative discharge", "time,stage,discharge\n2024-01-01,1,-3\n", []string{"g.csv:2:3", "must not be negative"}, ErrNegativeDischarge},
+		{"denormal discharge", "time,stage,discharge\n2024-01-01,1,3\n2024-02-01,1.1,4.9e-324\n", []string{"g.csv:3:3", "below 1e-06"}, ErrImplausible},
+		{"discharge below the bound", "time,stage,discharge\n2024-01-01,1,9.9e-7\n", []string{"g.csv:2:3", "above 0 but below 1e-06"}, ErrImplausible},
 		{"bad date", "time,stage,discharge\n2024-13-45,1,3\n", []string{"g.csv:2:1", `time "2024-13-45"`}, ErrISOTime},
 		{"serial in csv", "time,stage,discharge\n45000,1,3\n", []string{"g.csv:2:1"}, ErrSerialInCSV},
 		{"duplicate time", "time,stage,discharge\n2024-01-01T10:00,1,3\n2024-01-01T10:00,1.1,3.5\n", []string{"g.csv:3:1", "row 2"}, ErrDuplicateTime},
@@ -72,6 +74,18 @@ func TestParseGaugingsErrors(t *testing.T) {
 				t.Errorf("error %q is not %v", err, tc.is)
 			}
 		})
+	}
+}
+
+// The smallest gauged discharges are read: zero (a dry channel) and
+// MinGaugedDischarge itself.
+func TestParseGaugingsSmallestDischarge(t *testing.T) {
+	gs, err := ParseGaugings(strings.NewReader("time,stage,discharge\n2024-01-01,0.2,0\n2024-02-01,0.3,1e-6\n2024-03-01,0.4,0.0001\n"), "g.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(gs.Gaugings) != 3 || gs.Gaugings[1].Discharge != 1e-6 {
+		t.Errorf("gaugings %+v", gs.Gaugings)
 	}
 }
 

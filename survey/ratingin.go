@@ -85,7 +85,9 @@ const (
 // times read and checked as RatingTablesFromTable reads them (ParseISOTime's
 // forms or a workbook date, ErrYear, ErrMixedOffsets: a ParseError at the
 // cell; offsets count, so one instant written twice is one period); every
-// other column may be missing or blank (NaN). Per-subsection columns are
+// other column may be missing or blank (NaN), and within its bound where
+// given (ratingFields: MaxArea and the others; ErrImplausible at the
+// cell beyond it). Per-subsection columns are
 // not read. Bottom is stage − depth where a depth is given, else the
 // lowest stage; Top is the highest stage. Slope is the friction slope
 // (Q/K)² when at least two rows with flow and conveyance give the same one
@@ -330,29 +332,58 @@ func summaryItem(t *Table, item string) string {
 	return ""
 }
 
-// ratingField is an optional column of a rating table and the field of
-// rating.Row it fills.
+// Plausibility bounds of a rating table's property columns, in the
+// table's own units (SI or US customary): a value beyond ±bound is a slip
+// and refused at its cell (ErrImplausible), as stages beyond
+// ±MaxElevation and discharges above rating.MaxDischarge are. Depths,
+// hydraulic radii and hydraulic depths are bounded as elevations
+// (MaxElevation), widths and wetted perimeters as stations
+// (MaxCoordinate). Each bound is some hundreds of times what the largest
+// rivers reach: the Amazon near its mouth carries of the order of 2e5
+// m³/s through some 1e5 m² at 1 to 2 m/s, on a slope of about 2e-5 (from
+// memory); a natural channel's α is 1.1 to 2 and its Froude number below
+// 1 to 2 (Chow, Open-Channel Hydraulics, 1959, sections 2-8 and 3-3;
+// from memory); a flood's bed shear stress is of the order of 1e2 to 1e3
+// Pa (common practice).
+const (
+	// MaxArea bounds a flow area (length²).
+	MaxArea = 1e8
+	// MaxConveyance bounds a conveyance (discharge unit at unit slope):
+	// the largest discharge, rating.MaxDischarge, on a slope of 1e-8.
+	MaxConveyance = 1e12
+	// MaxVelocity bounds a mean velocity (length/s).
+	MaxVelocity = 1e3
+	// MaxCoefficient bounds the dimensionless columns: α, β and the
+	// Froude number.
+	MaxCoefficient = 1e3
+	// MaxShearStress bounds a mean bed shear stress (Pa, or lb/ft²).
+	MaxShearStress = 1e6
+)
+
+// ratingField is an optional column of a rating table, the bound of its
+// values (see MaxArea) and the field of rating.Row it fills.
 type ratingField struct {
-	name string
-	set  func(r *rating.Row, v float64)
+	name  string
+	limit float64
+	set   func(r *rating.Row, v float64)
 }
 
 // ratingFields are the optional columns ratingRow reads, each with its
-// field: the one list both ratingRow and ratingRowColumns use.
+// bound and field: the one list both ratingRow and ratingRowColumns use.
 func ratingFields() []ratingField {
 	return []ratingField{
-		{"depth", func(r *rating.Row, v float64) { r.Depth = v }},
-		{"area", func(r *rating.Row, v float64) { r.Area = v }},
-		{"wetted_perimeter", func(r *rating.Row, v float64) { r.WettedPerimeter = v }},
-		{"top_width", func(r *rating.Row, v float64) { r.TopWidth = v }},
-		{"hydraulic_radius", func(r *rating.Row, v float64) { r.HydraulicRadius = v }},
-		{"conveyance", func(r *rating.Row, v float64) { r.Conveyance = v }},
-		{"mean_velocity", func(r *rating.Row, v float64) { r.MeanVelocity = v }},
-		{"alpha", func(r *rating.Row, v float64) { r.Alpha = v }},
-		{"froude", func(r *rating.Row, v float64) { r.Froude = v }},
-		{"hydraulic_depth", func(r *rating.Row, v float64) { r.HydraulicDepth = v }},
-		{"beta", func(r *rating.Row, v float64) { r.Beta = v }},
-		{"shear_stress", func(r *rating.Row, v float64) { r.ShearStress = v }},
+		{"depth", MaxElevation, func(r *rating.Row, v float64) { r.Depth = v }},
+		{"area", MaxArea, func(r *rating.Row, v float64) { r.Area = v }},
+		{"wetted_perimeter", MaxCoordinate, func(r *rating.Row, v float64) { r.WettedPerimeter = v }},
+		{"top_width", MaxCoordinate, func(r *rating.Row, v float64) { r.TopWidth = v }},
+		{"hydraulic_radius", MaxElevation, func(r *rating.Row, v float64) { r.HydraulicRadius = v }},
+		{"conveyance", MaxConveyance, func(r *rating.Row, v float64) { r.Conveyance = v }},
+		{"mean_velocity", MaxVelocity, func(r *rating.Row, v float64) { r.MeanVelocity = v }},
+		{"alpha", MaxCoefficient, func(r *rating.Row, v float64) { r.Alpha = v }},
+		{"froude", MaxCoefficient, func(r *rating.Row, v float64) { r.Froude = v }},
+		{"hydraulic_depth", MaxElevation, func(r *rating.Row, v float64) { r.HydraulicDepth = v }},
+		{"beta", MaxCoefficient, func(r *rating.Row, v float64) { r.Beta = v }},
+		{"shear_stress", MaxShearStress, func(r *rating.Row, v float64) { r.ShearStress = v }},
 	}
 }
 
@@ -374,7 +405,7 @@ func (c *rowCells) ratingRow(rec Record, cs, cq int) rating.Row {
 	r := rating.Row{Stage: c.needed(rec, cs, "stage", MaxElevation), Discharge: c.needed(rec, cq, "discharge", rating.MaxDischarge),
 		Flags: strings.Fields(c.t.Cell(rec, c.t.Column(ColRatingFlags)))}
 	for _, f := range ratingFields() {
-		f.set(&r, c.optional(rec, f.name))
+		f.set(&r, c.optional(rec, f.name, f.limit))
 	}
 	return r
 }
@@ -475,15 +506,16 @@ type rowCells struct {
 }
 
 // optional is the number in the column named name, NaN when the column
-// is absent, the cell blank or bad (a bad cell is gathered).
-func (c *rowCells) optional(rec Record, name string) float64 {
+// is absent, the cell blank, bad or beyond ±limit (a bad cell is
+// gathered, one beyond the limit as ErrImplausible).
+func (c *rowCells) optional(rec Record, name string, limit float64) float64 {
 	col := c.t.Column(name)
 	if col < 0 {
 		return math.NaN()
 	}
-	v, ok, err := c.t.Float(rec, col)
+	v, ok, err := c.t.bounded(rec, col, strings.ReplaceAll(name, "_", " "), limit)
 	if err != nil {
-		c.errs = append(c.errs, err.(*ParseError))
+		c.errs = append(c.errs, err)
 		return math.NaN()
 	}
 	if !ok {

@@ -67,6 +67,10 @@ type RatingTableOptions struct {
 type RatingTables struct {
 	// Periods are in time order, each with its rating table.
 	Periods []gauged.Period
+	// FromAt gives, for each of Periods, where its time was read: the
+	// position of its valid_from cell ("file:row"), "" for a period whose
+	// time is RatingTableOptions.From.
+	FromAt []string
 	// File and Sheet say where the ratings came from.
 	File, Sheet string
 	// Warnings are unusual but legal facts about the data.
@@ -248,6 +252,11 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 				p.From.Format(time.RFC3339), groups[i-1].from.Format(time.RFC3339))))
 		}
 		out.Periods = append(out.Periods, p)
+		at := ""
+		if cv >= 0 {
+			at = where(t, g.fromRec.Row)
+		}
+		out.FromAt = append(out.FromAt, at)
 	}
 	return out, errs.err()
 }

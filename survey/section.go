@@ -269,9 +269,8 @@ const (
 	MaxCoordinate = 1e8
 	// MaxElevation bounds |elevation| (no ground lies 100 km up or down).
 	MaxElevation = 1e5
-	// MinN and MaxN bound Manning's n: below 0.005 no channel is so
-	// smooth, above 1 the value is not an n (common practice).
-	MinN, MaxN = 0.005, 1.0
+	// MinN and MaxN bound Manning's n: rating.MinN and rating.MaxN.
+	MinN, MaxN = rating.MinN, rating.MaxN
 )
 
 // Causes of implausible survey values, for errors.Is.

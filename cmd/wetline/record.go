@@ -125,6 +125,9 @@ func perRating(v numbers, k int) (float64, bool) {
 type datedPeriod struct {
 	gauged.Period
 	spec string
+	// at is where a rating file's valid_from column gave the time
+	// ("file:row"), "" for a time given on the command line or none.
+	at string
 }
 
 // history reads the ratings and shift diagrams the flags name. Mistakes in
@@ -239,7 +242,7 @@ func (hf *historyFlags) ratingSpecs() ([]ratingSpec, map[string]bool, error) {
 func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided) ([]datedPeriod, string, []string, error) {
 	s := spec.text
 	if spec.none {
-		return []datedPeriod{{gauged.Period{From: spec.from}, s}}, "", nil, nil
+		return []datedPeriod{{Period: gauged.Period{From: spec.from}, spec: s}}, "", nil, nil
 	}
 	opt := survey.RatingTableOptions{Sheet: hf.ratingSheet, Extrapolate: hf.extrapolate, Datum: hf.datum, From: spec.from,
 		UTCOffset: time.Duration(hf.offset)}
@@ -263,13 +266,16 @@ func (hf *historyFlags) ratingPeriods(spec ratingSpec, z, g int, d *unitsDecided
 	}
 	out := make([]datedPeriod, len(rt.Periods))
 	for i, p := range rt.Periods {
-		out[i] = datedPeriod{p, s}
+		out[i] = datedPeriod{p, s, rt.FromAt[i]}
 	}
 	return out, spec.path, rt.Warnings, nil
 }
 
 // inOrder puts the rating periods in time order; two coming into force at
-// one time are a usage error naming both --rating.
+// one time are a usage error naming both --rating, or, when a rating
+// file's valid_from column gave either time, a conflict in the data
+// (gauged.ErrPeriodOrder, exit status 1) naming the file and row it came
+// from.
 func (hf *historyFlags) inOrder(periods []datedPeriod) ([]gauged.Period, error) {
 	sort.SliceStable(periods, func(i, j int) bool { return periods[i].From.Before(periods[j].From) })
 	out := make([]gauged.Period, 0, len(periods))
@@ -278,6 +284,18 @@ func (hf *historyFlags) inOrder(periods []datedPeriod) ([]gauged.Period, error) 
 			when := "from the beginning"
 			if !p.From.IsZero() {
 				when = "at " + p.From.Format(time.RFC3339)
+			}
+			if q := periods[i-1]; q.at != "" || p.at != "" {
+				file, other := p, q // file: the period whose time a valid_from cell gave
+				if p.at == "" {
+					file, other = q, p
+				}
+				also := "--rating " + other.spec
+				if other.at != "" {
+					also = "the rating of " + other.at
+				}
+				return nil, fmt.Errorf("%s: the %s of --rating %s, %s, is when %s comes into force too: %w",
+					file.at, survey.ColRatingValidFrom, file.spec, p.From.Format(time.RFC3339), also, gauged.ErrPeriodOrder)
 			}
 			return nil, usagef("%s: --rating %s and --rating %s both come into force %s: give each later rating its time, FILE@TIME",
 				hf.cmd, periods[i-1].spec, p.spec, when)

@@ -15,6 +15,38 @@ var ErrImplausibleN = errors.New("calibrated n outside the plausible range")
 // NRange bounds a plausible Manning's n (dimensionless).
 type NRange struct{ Min, Max float64 }
 
+// PlausibleN is the range of a plausible Manning's n, rating.MinN to
+// rating.MaxN: the range every n read is held to, and that a calibrated
+// n must keep.
+var PlausibleN = NRange{Min: rating.MinN, Max: rating.MaxN}
+
+// Check returns an error wrapping ErrImplausibleN when cal's best factor
+// is not a finite number above zero, or when the n of a scaled
+// subsection of c (every subsection, or the channel's with
+// cal.ChannelOnly) times the factor leaves r, naming the factor and the
+// n it gives: the gaugings, the slope or the datum are then wrong for
+// the section rather than its n. Both calibrate's refusal and fit's
+// warning are this error.
+func (r NRange) Check(cal Calibration, c rating.HydraulicCurve) error {
+	const advice = "check the slope, the datum (elevation = gauge height + datum) and the gaugings' units"
+	used := rating.Counted(cal.Used, "gauging", "gaugings")
+	if !(cal.Factor > 0) || math.IsInf(cal.Factor, 0) {
+		return errorf("%w: the best factor on n from %s is %g, which scales no n: %s", ErrImplausibleN, used, cal.Factor, advice)
+	}
+	scaled := rating.ScaledN{Geometry: c.Geometry, Factor: cal.Factor, ChannelOnly: cal.ChannelOnly}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, s := range scaled.Subsections() {
+		if scaled.Scales(s.Region) && s.N > 0 {
+			lo, hi = math.Min(lo, s.N), math.Max(hi, s.N)
+		}
+	}
+	if lo < r.Min || hi > r.Max {
+		return errorf("%w: the best factor on n, %.4g from %s, makes n %.4g to %.4g, not %g to %g: %s",
+			ErrImplausibleN, cal.Factor, used, lo, hi, r.Min, r.Max, advice)
+	}
+	return nil
+}
+
 // CalibratedGeometry back-calculates n on gaugings (Calibrate) and returns
 // the section of c with every n, or only the channel's, multiplied by the
 // best factor, the calibration as a rating report states it, and the
@@ -31,18 +63,10 @@ func CalibratedGeometry(gs []Gauging, c rating.HydraulicCurve, channelOnly bool,
 	if err != nil {
 		return rating.ScaledN{}, nil, nil, err
 	}
+	if err := plausible.Check(cal, c); err != nil {
+		return rating.ScaledN{}, nil, nil, err
+	}
 	scaled := rating.ScaledN{Geometry: c.Geometry, Factor: cal.Factor, ChannelOnly: channelOnly}
-	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, s := range scaled.Subsections() {
-		if scaled.Scales(s.Region) && s.N > 0 {
-			lo, hi = math.Min(lo, s.N), math.Max(hi, s.N)
-		}
-	}
-	if lo < plausible.Min || hi > plausible.Max {
-		return rating.ScaledN{}, nil, nil, errorf(
-			"%w: the best factor on n, %.4g from %s, makes n %.4g to %.4g, not %g to %g: check the slope, the datum (elevation = gauge height + datum) and the gaugings' units",
-			ErrImplausibleN, cal.Factor, rating.Counted(cal.Used, "gauging", "gaugings"), lo, hi, plausible.Min, plausible.Max)
-	}
 	which := "every n"
 	if channelOnly {
 		which = "the channel's n"

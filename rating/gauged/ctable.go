@@ -224,7 +224,7 @@ func (f *ControlFit) Table(opt ControlTableOptions) (ControlTable, error) {
 	}
 	if f.Posterior != nil && !f.Posterior.Converged && !opt.ShowUnconverged {
 		t.BandsWithheld = true
-		t.Warnings = append(t.Warnings, sayf("bands withheld: the chains disagree (R̂ = %.3g > %g)", f.Posterior.RHatMax, RHatLimit))
+		t.Warnings = append(t.Warnings, sayf("bands withheld: the chains disagree (R̂ %s, above %g)", rhatIs(f.Posterior.RHatMax), RHatLimit))
 	}
 	t.BandNote = t.bandNote()
 	if top > f.HighStage {

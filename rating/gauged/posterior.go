@@ -187,12 +187,30 @@ func (b *bayesProblem) likelihoodText() string {
 		"or its quality band (excellent 2 %%, good 5 %%, fair 8 %%, poor 12 %%, unrated 8 %%), read as a 95 %% expanded uncertainty, σ = U/1.96; %s", rem)
 }
 
+// rhatIs is RHatText after "R̂ ": "= 1.24", or "not determined".
+func rhatIs(v float64) string {
+	if t := RHatText(v); t != "not determined" {
+		return "= " + t
+	}
+	return "not determined"
+}
+
+// RHatText words a potential scale reduction R̂ for a report: three
+// significant digits, or "not determined" when it is not a finite number
+// (chains that never moved, so that their variances are zero).
+func RHatText(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "not determined"
+	}
+	return sayf("%.3g", v)
+}
+
 // warnings returns what a reviewer should know of the sampling.
 func (p *Posterior) warnings() []string {
 	var out []string
 	if !p.Converged {
-		out = append(out, sayf("the chains disagree (R̂ = %.3g for %s, above %g): the posterior is not established and bands are withheld unless asked; draw more or check the controls and priors",
-			p.RHatMax, p.RHatParam, RHatLimit))
+		out = append(out, sayf("the chains disagree (R̂ %s for %s, above %g): the posterior is not established and bands are withheld unless asked; draw more or check the controls and priors",
+			rhatIs(p.RHatMax), p.RHatParam, RHatLimit))
 	}
 	if p.ESSMin < MinESS {
 		out = append(out, sayf("the effective sample size of %s is %.0f, below %d: draw more for stable bands", p.ESSParam, p.ESSMin, MinESS))

@@ -220,6 +220,12 @@ var ErrTableFlowsAtFoot = errors.New("the hydraulic rating table does not say wh
 // elevations is likely missing or wrong.
 var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's stage range")
 
+// ErrGaugingFarBelowSection is the cause of a gauging with flow that lies
+// further below the section's lowest point than the section is high: no
+// water flows through the section there, and no scour or missed pool
+// puts the bed so deep, so its gauge height or the datum is a slip.
+var ErrGaugingFarBelowSection = errors.New("a gauging with flow lies far below the section")
+
 // Analyze compares, calibrates and fits gaugings as opt says: the
 // comparison with the hydraulic rating (a section's or a table's;
 // Compare, CompareTable), the n back-calculation (a section; Calibrate),
@@ -230,7 +236,9 @@ var ErrGaugingsOutsideSection = errors.New("no gauging lies within the section's
 // stage. Stages are gauge heights in the length unit of opt.Units (a
 // section's Datum relates its elevations to them) and discharges are in
 // its discharge unit. The report gathers the warnings of every part; a
-// calibration that finds no gauging to use, and a lookup out of range,
+// calibration that finds no gauging to use, or whose best factor makes n
+// implausible (PlausibleN.Check, which rate's calibration refuses: here
+// the calibration is left out of the report), and a lookup out of range,
 // are warnings, not errors.
 //
 // Preconditions: CompareOnly and ZeroFlowControl need opt.Hydraulic or
@@ -334,6 +342,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		if err := withinSection(gs, *c); err != nil {
 			return err
 		}
+		if err := farBelowSection(gs, *c); err != nil {
+			return err
+		}
 		r.HydraulicSource = "section"
 		if name := cmp.Or(opt.Section, opt.Site); name != "" {
 			r.HydraulicSource += " " + name
@@ -348,6 +359,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		cal, err := calibrate(gs, *c, opt.ChannelOnly, opt.Controls.Selection)
 		if err != nil && !errors.Is(err, ErrCalibrate) {
 			return err
+		}
+		if err == nil {
+			err = PlausibleN.Check(cal, *c) // as rate --calibrate refuses it, a warning here: the fit does not rest on it
 		}
 		r.Warnings = append(r.Warnings, cal.Warnings...)
 		if err == nil {
@@ -525,6 +539,25 @@ func (r *Report) curve(c *rating.HydraulicCurve) error {
 		r.Curve = append(r.Curve, p)
 	}
 	return nil
+}
+
+// farBelowSection refuses each gauging kept for the fit (Exclude blank)
+// whose discharge is above zero at a gauge height further below the
+// section's lowest point than the section is high, from its lowest point
+// to its lower end (ErrGaugingFarBelowSection, naming each): the check
+// every fit on a section passes, by least squares or Bayesian inference,
+// before either starts. A gauging nearer the bed is warned of by Compare.
+func farBelowSection(gs []Gauging, c rating.HydraulicCurve) error {
+	bottom, top := c.Bottom(), c.Top()
+	var errs []error
+	for _, g := range gs {
+		if g.Exclude == "" && g.Discharge > 0 && bottom-g.Stage > top-bottom {
+			errs = append(errs, errorf("%w: %s: gauge height %g (elevation %g at datum %g) with %g %s is %s %s below the section's lowest point (%s on the gauge), which is %s %s high: check the gauge height and --datum",
+				ErrGaugingFarBelowSection, g.label(), g.Stage, g.Stage+c.Datum, c.Datum, g.Discharge, c.Options.Units.Discharge(),
+				rating.PlainFigures(bottom-g.Stage, 4), c.Options.Units.Length(), gh(bottom), rating.PlainFigures(top-bottom, 3), c.Options.Units.Length()))
+		}
+	}
+	return errors.Join(errs...)
 }
 
 // withinSection returns ErrGaugingsOutsideSection, with the ranges, when no

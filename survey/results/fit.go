@@ -788,8 +788,12 @@ func standardErrorUndefined(f *gauged.ControlFit) string {
 
 // writePosterior writes the posterior summaries.
 func writePosterior(p printer, post *gauged.Posterior) {
-	p("\nPosterior (%d chains of %d draws, pilot %d, seed %d): acceptance %.2f, R̂ max %.3f (%s; chains agree at ≤ %s), least effective sample size %.0f (%s)\n",
-		post.Chains, post.Draws, post.Pilot, post.Seed, post.Acceptance, post.RHatMax, post.RHatParam, sig(gauged.RHatLimit, shortest), post.ESSMin, post.ESSParam)
+	rhat := "not determined"
+	if !math.IsNaN(post.RHatMax) && !math.IsInf(post.RHatMax, 0) {
+		rhat = fmt.Sprintf("%.3f", post.RHatMax)
+	}
+	p("\nPosterior (%d chains of %d draws, pilot %d, seed %d): acceptance %.2f, R̂ max %s (%s; chains agree at ≤ %s), least effective sample size %.0f (%s)\n",
+		post.Chains, post.Draws, post.Pilot, post.Seed, post.Acceptance, rhat, post.RHatParam, sig(gauged.RHatLimit, shortest), post.ESSMin, post.ESSParam)
 	p("  likelihood: %s\n", post.Likelihood)
 	p("  %-11s %11s %10s %11s %11s %11s %11s %10s %7s %7s\n", "parameter", "mean", "sd", "2.5 %", "median", "97.5 %", "prior mean", "prior sd", "R̂", "ESS")
 	for _, s := range post.Parameters {
