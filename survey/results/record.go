@@ -584,7 +584,7 @@ func excludedStar(g gauged.GaugingShift) string {
 func writeDailyText(rw *rowWriter, res *record.Result) {
 	bw := rw.w
 	Q := res.UnitSystem.Discharge()
-	fmt.Fprintf(bw, "\nDaily values (discharge in %s: time-weighted mean of the unit values by the trapezoidal rule, least and greatest of the readings, of the discharge at both midnights that bound the day where bridged, and on either side of a rating break in the day or at its closing midnight (at a break on a reading, that reading's unit value); coverage = fraction of the day bridged):\n", Q)
+	fmt.Fprintf(bw, "\nDaily values (discharge in %s: time-weighted mean of the unit values by the trapezoidal rule, least and greatest of the readings, of the discharge at a bridged midnight and on either side of a rating break between readings; coverage = fraction of the day bridged):\n", Q)
 	fmt.Fprintf(bw, "  %-10s %10s %10s %10s %-25s %8s  %s\n", "date", "mean", "min", "max", "max time", "coverage", "flags")
 	for _, d := range res.Daily {
 		mt := "-"
