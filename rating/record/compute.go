@@ -107,14 +107,12 @@ type DailyValue struct {
 	// in the day between two readings (a new period or an abrupt shift
 	// diagram: the stage interpolated in time, rated on what is in force
 	// before the break and after it); at a break on a reading, that
-	// reading's unit discharge stands for the break. The day includes the
-	// midnight that ends it, so a break there counts into it as well: both
-	// sides between readings, the reading's unit discharge on a reading.
-	// Between readings these are the corners of the discharge the mean
-	// integrates, so there no discharge of it lies outside them; at a break
-	// the greatest or least can be a value no reading holds. At a break on
-	// a reading the mean integrates up to the discharge before the break,
-	// which the least and greatest do not count.
+	// reading's unit discharge stands for the break. Between readings these
+	// are the corners of the discharge the mean integrates, so there no
+	// discharge of it lies outside them; at a break the greatest or least
+	// can be a value no reading holds. At a break on a reading the mean
+	// integrates up to the discharge before the break, which the least and
+	// greatest do not count.
 	Min, Max         float64
 	MinTime, MaxTime time.Time
 	// Coverage is the fraction of the day covered by bridged intervals with

@@ -103,43 +103,15 @@ func (c *counter) integrate(st *Stages, r *gauged.Rater, maxGap int64) {
 		for ; k < len(breaks) && breaks[k] <= t1; k++ {
 			b := breaks[k]
 			hb := h0 + (h1-h0)*float64(b-t0)/float64(t1-t0)
-			end := toBreak
-			if b == t1 {
-				end = toBreakOnReading // the reading stands for the break
-			}
-			reached := c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge, node, end)
+			c.segment(ta, qa, b, r.AtUnix(b, hb, true).Discharge, node, b < t1) // on a reading, the reading stands for the break
 			ta, qa, node = b, c.units[i].Discharge, false
 			if b < t1 {
 				qa, node = r.AtUnix(b, hb, false).Discharge, true
 			}
-			// A break at a midnight: the day that ends there includes
-			// that midnight, where the discharge in force from the break
-			// stands (the reading's unit value on a reading), when the
-			// record is bridged up to it and on from it.
-			if reached && b == c.midnight(b) && !math.IsNaN(c.units[i].Discharge) {
-				c.days[c.day(b)-1].extreme(b, qa)
-			}
 		}
-		c.segment(ta, qa, t1, c.units[i].Discharge, node, toReading)
+		c.segment(ta, qa, t1, c.units[i].Discharge, node, false)
 	}
 }
-
-// segmentEnd says what the end of a segment is, for the least and
-// greatest of its day.
-type segmentEnd int
-
-const (
-	// toReading: the end is a reading, whose unit value counts (into the
-	// day that ends there, at a midnight; its own day counts it by
-	// reading).
-	toReading segmentEnd = iota
-	// toBreak: the end is the side before a rating break between
-	// readings, which counts into the day.
-	toBreak
-	// toBreakOnReading: the end is the side before a rating break on a
-	// reading, no unit value, which counts for nothing.
-	toBreakOnReading
-)
 
 // gap marks an unbridged interval from t0 to t1 on the days it touches.
 func (c *counter) gap(t0, t1 int64) {
@@ -158,18 +130,16 @@ func (c *counter) gap(t0, t1 int64) {
 // the segment reaches counts into the least and greatest of the day it
 // ends and of the day it begins, at the midnight's time. An end that is a
 // side of a rating break (fromBreak for its start, toBreak for its end:
-// the discharge at the break on the rating and shifts in force after it;
-// end toBreak for its end, the discharge before it) counts into the least
-// and greatest of its day too, at the break's time, as the unit values do:
-// the daily extremes are those of the discharge the mean integrates. A
-// reading's end is counted by reading; a break that falls on a reading
-// (toBreakOnReading) is that reading's unit value alone (the side before
-// it is no unit value, and a daily extreme there would be one the record's
-// table does not show), counted by reading and, at a midnight, by
-// integrate. It reports whether the segment covered anything.
-func (c *counter) segment(ta int64, qa float64, tb int64, qb float64, fromBreak bool, to segmentEnd) bool {
+// the discharge at the break on the rating and shifts in force after it,
+// or before it) counts into the least and greatest of its day too, at the
+// break's time, as the unit values do: the daily extremes are those of the
+// discharge the mean integrates. A reading's end is counted by reading;
+// a break that falls on a reading is that reading's unit value alone (the
+// side before it is no unit value, and a daily extreme there would be one
+// the record's table does not show).
+func (c *counter) segment(ta int64, qa float64, tb int64, qb float64, fromBreak, toBreak bool) {
 	if tb <= ta || math.IsNaN(qa) || math.IsNaN(qb) {
-		return false
+		return
 	}
 	slope := (qb - qa) / float64(tb-ta)
 	s, qs := ta, qa
@@ -186,12 +156,11 @@ func (c *counter) segment(ta int64, qa float64, tb int64, qb float64, fromBreak 
 		if s == begin || s == ta && fromBreak {
 			day.extreme(s, qs)
 		}
-		if e < tb && e == end || e == tb && (to == toBreak || to == toReading && e == end) {
+		if e == end || e == tb && toBreak {
 			day.extreme(e, qe)
 		}
 		s, qs = e, qe
 	}
-	return true
 }
 
 // daily returns the daily values.

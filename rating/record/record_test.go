@@ -659,24 +659,28 @@ func TestMissingReadingQuality(t *testing.T) {
 }
 
 // TestDailyExtremesAtMidnightBreak: a day runs midnight to midnight, both
-// ends included, so a rating break at the midnight that ends it (a new
-// period or an abrupt diagram) counts into its least and greatest with the
-// discharge in force from the break: on a reading, that reading's unit
-// value (the old side is no unit value); between readings, both sides. The
-// means are those of the trapezoids. Maximum gap 12 h; by hand:
+// ends included, and its least and greatest are taken over the discharges
+// its mean integrates: at a rating break at the midnight that ends it (a
+// new period or an abrupt diagram), the discharge before the break; the
+// discharge from the break, the reading's unit value, opens the next day.
+// Maximum gap 12 h; by hand:
 //
 //	new period on a reading: Q = 10·h, from 24:00 Q = 5·h; 00:00 h=3
-//	  Q=30, 12:00 h=2 Q=20, 24:00 h=2 Q=10 (20 on the old rating), 36:00
-//	  h=2 Q=10. Day 1: least 10 at 24:00, greatest 30 at 00:00, mean
-//	  (½(30+20)·12 + ½(20+20)·12)/24 = 540/24; day 2: 10 at 24:00, mean 10.
+//	  Q=30, 12:00 h=2 Q=20, 24:00 h=2.5 Q=25 before the break (12.5 from
+//	  it), 36:00 h=2 Q=10. Day 1: least 20 at 12:00, greatest 30 at
+//	  00:00, mean (½(30+20)·12 + ½(20+25)·12)/24 = 570/24; day 2: least
+//	  10 at 36:00, greatest 12.5 at 24:00, mean ½(12.5+10)·12/12.
 //	abrupt diagram on a reading: Q = 10·h, shift 0 from 00:00, +1 from
-//	  24:00 abrupt; 00:00 h=1 Q=10, 12:00 h=2 Q=20, 24:00 h=2 Q=30 (20
-//	  before the break), 36:00 Q=30. Day 1: least 10 at 00:00, greatest 30
-//	  at 24:00, mean (½(10+20)·12 + 20·12)/24 = 420/24; day 2: 30, mean 30.
-//	abrupt diagram between readings: as above, readings 00:00 h=1, 10:00
-//	  h=1, 20:00 h=2, 28:00 h=2, 36:00 h=2. At 24:00 Q = 20 before, 30
-//	  after. Day 1: least 10 at 00:00, greatest 30 at 24:00, mean (10·10 +
-//	  ½(10+20)·10 + 20·4)/24 = 330/24; day 2: 30 at 24:00, mean 30.
+//	  24:00 abrupt; 00:00 h=1 Q=10, 12:00 h=2 Q=20, 24:00 h=2.5 Q=25
+//	  before the break (35 from it), 36:00 h=2 Q=30. Day 1: least 10 at
+//	  00:00, greatest 25 at 24:00, mean (½(10+20)·12 + ½(20+25)·12)/24 =
+//	  450/24; day 2: least 30 at 36:00, greatest 35 at 24:00, mean
+//	  ½(35+30)·12/12.
+//	abrupt diagram between readings: readings 00:00 h=1, 10:00 h=1, 20:00
+//	  h=1.8, 28:00 h=2, 36:00 h=2; at 24:00 h=1.9, Q = 19 before, 29
+//	  after. Day 1: least 10 at 00:00, greatest 19 at 24:00, mean (10·10
+//	  + ½(10+18)·10 + ½(18+19)·4)/24 = 314/24; day 2: least 29 at 24:00,
+//	  greatest 30 at 28:00, mean (½(29+30)·4 + 30·8)/12.
 func TestDailyExtremesAtMidnightBreak(t *testing.T) {
 	shifted := func(s float64) gauged.History {
 		return gauged.History{
@@ -698,9 +702,9 @@ func TestDailyExtremesAtMidnightBreak(t *testing.T) {
 	}{
 		{"new period on a reading", gauged.History{Periods: []gauged.Period{
 			{Rating: linear("q=10h", 10)}, {From: time.Unix(at(24), 0), Rating: linear("q=5h", 5)},
-		}}, stages(0, 3, 12, 2, 24, 2, 36, 2), []day{{10, 30, 24, 0, 540}, {10, 10, 24, 24, 10 * 12}}},
-		{"abrupt diagram on a reading", shifted(1), stages(0, 1, 12, 2, 24, 2, 36, 2), []day{{10, 30, 0, 24, 420}, {30, 30, 24, 24, 30 * 12}}},
-		{"abrupt diagram between readings", shifted(1), stages(0, 1, 10, 1, 20, 2, 28, 2, 36, 2), []day{{10, 30, 0, 24, 330}, {30, 30, 24, 24, 30 * 12}}},
+		}}, stages(0, 3, 12, 2, 24, 2.5, 36, 2), []day{{20, 30, 12, 0, 570}, {10, 12.5, 36, 24, 0.5 * (12.5 + 10) * 12}}},
+		{"abrupt diagram on a reading", shifted(1), stages(0, 1, 12, 2, 24, 2.5, 36, 2), []day{{10, 25, 0, 24, 450}, {30, 35, 36, 24, 0.5 * (35 + 30) * 12}}},
+		{"abrupt diagram between readings", shifted(1), stages(0, 1, 10, 1, 20, 1.8, 28, 2, 36, 2), []day{{10, 19, 0, 24, 314}, {29, 30, 24, 28, 0.5*(29+30)*4 + 30*8}}},
 	} {
 		res := compute(t, tc.st, rater(t, tc.h), Options{MaxGap: 12 * time.Hour})
 		for i, w := range tc.want {
