@@ -827,7 +827,7 @@ func saCheckList(res *SlopeArea) []Check {
 		cs = append(cs, saFallChecks(res)...)
 		first, last := res.Sections[0].Distance, res.Sections[n-1].Distance
 		cs = append(cs, Check{Name: "reach length vs mean depth", Value: res.Length, Limit: MinReachDepths * meanD, Relation: "≥",
-			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: fmt.Sprintf(srcLength, saDepthWords(res.Sections, "at every section"))})
+			Pass: res.Length >= MinReachDepths*meanD-roundOffSlack(first, last), Source: fmt.Sprintf(srcLength, saDepthWords(res.Sections, "averaged over the sections"))})
 		cs = append(cs, saSubreachLengthChecks(res)...)
 		for _, sr := range res.Subreaches {
 			ratio := sr.ConveyanceRatio
@@ -882,7 +882,7 @@ func saSubreachLengthChecks(res *SlopeArea) []Check {
 		limit := share * (saCheckDepth(up) + saCheckDepth(dn)) / 2
 		cs = append(cs, Check{Name: "subreach length " + sr.From + " to " + sr.To, Value: sr.Length, Limit: limit, Relation: "≥",
 			Pass:   sr.Length >= limit-roundOffSlack(up.Distance, dn.Distance),
-			Source: fmt.Sprintf(srcSubreachLength, share, saDepthWords([]SectionResult{up, dn}, "at both its sections"))})
+			Source: fmt.Sprintf(srcSubreachLength, share, saDepthWords([]SectionResult{up, dn}, "averaged over its two sections"))})
 	}
 	return cs
 }
@@ -924,9 +924,10 @@ func saCheckDepth(s SectionResult) float64 {
 }
 
 // saDepthWords says which depth saCheckDepth took at the sections, for
-// the source of a length check: "depths of the main channel (…) " and
-// every, the words for all the sections, when it is the channel's at
-// each, and the sections by name otherwise.
+// the source of a length check: "depths of the main channel (…) " when it
+// is the channel's at each (or of the whole section at each), the
+// sections by name otherwise, then every, which says how the depths are
+// combined ("averaged over the sections").
 func saDepthWords(secs []SectionResult, every string) string {
 	var channel, whole []string
 	for _, s := range secs {
@@ -946,7 +947,7 @@ func saDepthWords(secs []SectionResult, every string) string {
 	case len(channel) == 0:
 		return "depths " + wholeWords + " " + every
 	}
-	return "depths " + chWords + " at " + strings.Join(channel, ", ") + " and " + wholeWords + " at " + strings.Join(whole, ", ")
+	return "depths " + chWords + " at " + strings.Join(channel, ", ") + " and " + wholeWords + " at " + strings.Join(whole, ", ") + ", " + every
 }
 
 // saFallChecks checks the fall of every subreach against the larger of

@@ -906,8 +906,8 @@ func TestSlopeAreaLengthChannelDepth(t *testing.T) {
 		words      string
 		subreachOK bool
 	}{
-		{"banks", []bool{true, true, true}, deep + ws, false, "mean depths of the main channel (its area over its top width between the banks) at every section", false},
-		{"no banks", []bool{false, false, false}, whole, true, "mean depths of the whole section (its area over its top width) at every section", true},
+		{"banks", []bool{true, true, true}, deep + ws, false, "mean depths of the main channel (its area over its top width between the banks) averaged over the sections", false},
+		{"no banks", []bool{false, false, false}, whole, true, "mean depths of the whole section (its area over its top width) averaged over the sections", true},
 		{"one without", []bool{true, true, false}, (2*(deep+ws) + whole) / 3, false,
 			"mean depths of the main channel (its area over its top width between the banks) at A, B and of the whole section (its area over its top width) at C", false},
 	} {
