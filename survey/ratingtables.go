@@ -362,6 +362,18 @@ func DryFoot(points []gauged.RatingPoint) (e float64, ok bool) {
 	return e, true
 }
 
+// TableDryFoot is DryFoot of a rating table as RatingFromTable reads it
+// (its rows' stages and discharges): the gauge height of zero flow the
+// table gives itself when its first row has no flow, for a reader that
+// takes e as every rating-table reader does without a flag giving it.
+func TableDryFoot(t rating.Table) (e float64, ok bool) {
+	pts := make([]gauged.RatingPoint, len(t.Rows))
+	for i, r := range t.Rows {
+		pts[i] = gauged.RatingPoint{Stage: r.Stage, Discharge: r.Discharge}
+	}
+	return DryFoot(pts)
+}
+
 // yesWord reads a yes/true cell.
 func yesWord(s string) bool {
 	switch strings.ToLower(strings.TrimSpace(s)) {

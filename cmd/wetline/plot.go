@@ -120,11 +120,16 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	if n := unitsAssumed(survey.Position(path, src.Table.Sheet), header, u.Given); n != "" {
 		notes = append(notes, n)
 	}
+	zeroFlow := f.zeroFlow
+	if e, ok := survey.TableDryFoot(t); ok && !fs.Changed("zero-flow") && len(fit) == 0 {
+		zeroFlow = e
+		notes = append(notes, survey.DryFootNote(survey.Position(path, src.Table.Sheet), e, "--zero-flow"))
+	}
 	warnings := append([]string(nil), t.Warnings...)
 	if n := plotting.FlagNote(plotting.FlagMarks(t), t.Units); n != "" {
 		warnings = append(warnings, survey.Position(path, src.Table.Sheet)+": "+n)
 	}
-	in := plotting.RatingFigures{Site: figureSite(src.Site, p, f.site), Base: figureBase(t.Name), Table: t, ZeroFlow: f.zeroFlow, Size: size, Fit: fit,
+	in := plotting.RatingFigures{Site: figureSite(src.Site, p, f.site), Base: figureBase(t.Name), Table: t, ZeroFlow: zeroFlow, Size: size, Fit: fit,
 		Subtitle: fmt.Sprintf("redrawn from %s", filepath.Base(path))}
 	if src.Summary {
 		in.Subtitle += ", sheet " + src.Table.Sheet
