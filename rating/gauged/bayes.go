@@ -219,6 +219,9 @@ func FitBayes(gs []Gauging, opt BayesOptions) (*ControlFit, error) {
 	if err != nil {
 		return nil, err
 	}
+	if err := farBelowOthers(gs, d, opt.Units); err != nil {
+		return nil, err
+	}
 	if d.n() < 1 {
 		return nil, errorf("%w: no gauging is used", ErrFewGaugings)
 	}

@@ -41,6 +41,13 @@ type ControlRow struct {
 	// Hydraulic is the section's hydraulic discharge (discharge unit; NaN
 	// without a section).
 	Hydraulic float64
+	// OverbankShare is φ_ob(h), the overbank subsections' share of the
+	// section's conveyance at the row's gauge height, on rows of the
+	// conveyance-slope extension (ConveyanceSlopeAbove): with the join's
+	// share it gives the row's allowance for Manning's n off the channel
+	// (see ConveyanceSlope.At). 0 on a reference without overbanks (a
+	// table, a section without bank stations); NaN on rows of other bases.
+	OverbankShare float64
 }
 
 // Extrapolated reports a row outside the range of the gaugings.
@@ -492,7 +499,7 @@ func stageGrid(keep []float64, lo, top, step float64) []float64 {
 // bands is set (NaN otherwise).
 func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	f := t.fit
-	r := ControlRow{Stage: h, Multiple: math.NaN(), Hydraulic: math.NaN()}
+	r := ControlRow{Stage: h, Multiple: math.NaN(), Hydraulic: math.NaN(), OverbankShare: math.NaN()}
 	k := math.NaN()
 	if t.hyd.ok() {
 		q, kk, err := t.hyd.at(h)
@@ -511,6 +518,7 @@ func (t *ControlTable) row(h float64, bands bool) (ControlRow, error) {
 	case h > f.HighStage && t.Extension != nil:
 		r.Basis = ConveyanceSlopeAbove
 		r.Discharge, r.ParametricLower, r.ParametricUpper, r.TotalLower, r.TotalUpper = t.Extension.At(h, k)
+		r.OverbankShare = t.Extension.ref.overbankShare(h)
 		r.ParametricLower, r.TotalLower = t.held.at(h, r.ParametricLower, r.TotalLower)
 	case !bands:
 		switch {

@@ -318,6 +318,9 @@ func newLSQProblem(gs []Gauging, opt ControlOptions) (*lsqProblem, []string, []s
 	if err != nil {
 		return nil, nil, nil, err
 	}
+	if err := farBelowOthers(gs, d, opt.Units); err != nil {
+		return nil, nil, nil, err
+	}
 	m := newModel(kinds, joints)
 	k := m.k()
 	for j := 0; j < k; j++ {

@@ -6,6 +6,8 @@ import (
 	"sort"
 	"strings"
 	"time"
+
+	"wetline/rating"
 )
 
 // Selection chooses the gaugings a rating is fitted to: those of a rating
@@ -200,4 +202,41 @@ func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 // countIn counts the gaugings with lo ≤ h < hi.
 func (d *data) countIn(lo, hi float64) int {
 	return sort.SearchFloat64s(d.h, hi) - sort.SearchFloat64s(d.h, lo)
+}
+
+// FarBelowOthersMultiple is how many times the stage span of the other
+// gaugings a fit uses its lowest one may lie below the lowest of them
+// before it is refused (ErrGaugingFarBelowOthers). Ten is a project
+// choice, generous on purpose (common practice: refuse only what no low
+// flow explains): a genuine low-flow gauging lies within a span or so of
+// the others, while a missing-value code (such as −99999) or a slip of
+// the datum puts a gauging thousands of spans away.
+const FarBelowOthersMultiple = 10
+
+// ErrGaugingFarBelowOthers is the cause of a gauging with flow, used by a
+// fit, whose gauge height lies below the lowest of the other gaugings used
+// by more than FarBelowOthersMultiple times their stage span: the check
+// that needs no section, beside ErrGaugingFarBelowSection.
+var ErrGaugingFarBelowOthers = errors.New("a gauging with flow lies far below the other gaugings")
+
+// farBelowOthers refuses the lowest gauging of d (the gaugings a fit
+// uses, with flow, ascending in stage) when it lies below the lowest of
+// the others by more than FarBelowOthersMultiple times their stage span
+// (ErrGaugingFarBelowOthers, naming it by its source and gauge height).
+// With fewer than two others, or others all at one stage, there is no
+// span to judge by and nothing is refused. Every fit passes this check,
+// by least squares or Bayesian inference, before it starts.
+func farBelowOthers(gs []Gauging, d *data, u rating.Units) error {
+	n := d.n()
+	if n < 3 {
+		return nil
+	}
+	lo, span := d.h[1], d.h[n-1]-d.h[1]
+	if !(span > 0) || !(lo-d.h[0] > FarBelowOthersMultiple*span) {
+		return nil
+	}
+	g := gs[d.index[0]]
+	return errorf("%w: %s: gauge height %g with %g %s is %s %s below the lowest other gauging (at %s %s), more than %d times the other gaugings' stage span of %s %s: check for a missing-value code or a slip of the datum",
+		ErrGaugingFarBelowOthers, g.label(), g.Stage, g.Discharge, u.Discharge(),
+		rating.PlainFigures(lo-d.h[0], 4), u.Length(), gh(lo), u.Length(), FarBelowOthersMultiple, rating.PlainFigures(span, 3), u.Length())
 }

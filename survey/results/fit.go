@@ -180,6 +180,10 @@ type jsonTableRow struct {
 	TotalLower      Float  `json:"total_lower_95"`
 	TotalUpper      Float  `json:"total_upper_95"`
 	Multiple        Float  `json:"gauged_multiple"`
+	// OverbankShare is the overbanks' share of conveyance at the row's
+	// stage, on rows of the conveyance-slope extension (null on others):
+	// with join_overbank_share it gives the row's allowance for n.
+	OverbankShare Float `json:"overbank_share"`
 }
 
 type jsonBreak struct {
@@ -414,9 +418,13 @@ func WriteFitJSON(w io.Writer, r *gauged.Report) error {
 		out.Extrapolation = jsonExtrapolationOf(r, t)
 		out.BandNote, out.BandsWithheld = t.BandNote, t.BandsWithheld
 		for _, row := range t.Rows {
+			share := math.NaN()
+			if row.Basis == gauged.ConveyanceSlopeAbove {
+				share = row.OverbankShare
+			}
 			out.Table = append(out.Table, jsonTableRow{Float(row.Stage), Float(row.Discharge), row.Extrapolated(), row.Basis.String(),
 				Float(row.ParametricLower), Float(row.ParametricUpper), Float(row.Hydraulic),
-				Float(row.ParametricLower), Float(row.ParametricUpper), Float(row.TotalLower), Float(row.TotalUpper), Float(row.Multiple)})
+				Float(row.ParametricLower), Float(row.ParametricUpper), Float(row.TotalLower), Float(row.TotalUpper), Float(row.Multiple), Float(share)})
 		}
 	}
 	return writeJSON(w, out)

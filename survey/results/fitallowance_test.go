@@ -42,10 +42,14 @@ func allowanceSection(t *testing.T, banks bool) rating.HydraulicCurve {
 // quantile and degrees of freedom, n's cv and σ_lnf = √(ln(1 + cv²))
 // (0.198042 for cv 0.2, hand calculation; null without overbanks) and the
 // overbanks' share at the join. The text report gives them on one line.
-// On the section without bank stations the upper total band at the top
-// row is re-derived from the report alone: √(w_j² + a_S²), w_j the total
-// half-width in ln Q at the join's row, a_S = t·½·(h − h_j)·SE, with t
-// the published 97.5 % Student quantile (Student's t table).
+// On each section the upper total band at the top row is re-derived from
+// the report alone: √(w_j² + a_S² + a_n²), w_j the total half-width in
+// ln Q at the join's row, a_S = t·½·(h − h_j)·SE, with t the published
+// 97.5 % Student quantile (Student's t table), and a_n = z·|φ(h) −
+// φ(h_j)|·σ_lnf, z = 1.959964 the 97.5 % normal quantile (standard
+// normal table), φ(h) the row's overbank_share (the last key of every
+// table row, null off the extension) and φ(h_j) join_overbank_share;
+// without bank stations a_n is 0.
 func TestWriteFitJSONAllowances(t *testing.T) {
 	var gs []gauged.Gauging
 	for i := range 12 {
@@ -73,10 +77,18 @@ func TestWriteFitJSONAllowances(t *testing.T) {
 			}
 			Table []struct {
 				Stage, Discharge float64
-				TotalUpper       float64 `json:"total_upper_95"`
+				Basis            string
+				TotalUpper       float64  `json:"total_upper_95"`
+				Share            *float64 `json:"overbank_share"`
 			}
 		}
+		var rawDoc struct {
+			Table []json.RawMessage `json:"table"`
+		}
 		if err := json.Unmarshal(buf.Bytes(), &doc); err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal(buf.Bytes(), &rawDoc); err != nil {
 			t.Fatal(err)
 		}
 		raw := doc.Extrapolation.ConveyanceSlope
@@ -99,25 +111,36 @@ func TestWriteFitJSONAllowances(t *testing.T) {
 		if tq, ok := tTable[float64(c.DF)]; !ok || c.DF != c.Gaugings-2 || math.Abs(c.T-tq) > 1e-4 || !(c.SE > 0) || c.Share == nil {
 			t.Errorf("banks %v: t %g on %d degrees of freedom (%d gaugings), SE %g, share %v", banks, c.T, c.DF, c.Gaugings, c.SE, c.Share)
 		}
+		var aN float64
 		if banks {
 			if c.NCV == nil || *c.NCV != 0.2 || c.NLogSD == nil || math.Abs(*c.NLogSD-0.198042) > 1e-6 {
 				t.Errorf("n cv %v, σ_lnf %v, want 0.2 and 0.198042", c.NCV, c.NLogSD)
 			}
-		} else {
-			if c.NCV != nil || c.NLogSD != nil || *c.Share != 0 {
-				t.Errorf("without banks: n cv %v, σ_lnf %v, share %v, want null, null, 0", c.NCV, c.NLogSD, *c.Share)
+		} else if c.NCV != nil || c.NLogSD != nil || *c.Share != 0 {
+			t.Errorf("without banks: n cv %v, σ_lnf %v, share %v, want null, null, 0", c.NCV, c.NLogSD, *c.Share)
+		}
+		var wj float64
+		for i, r := range doc.Table {
+			if math.Abs(r.Stage-c.Stage) < 1e-9 {
+				wj = math.Log(r.TotalUpper / r.Discharge)
 			}
-			var wj float64
-			for _, r := range doc.Table {
-				if math.Abs(r.Stage-c.Stage) < 1e-9 {
-					wj = math.Log(r.TotalUpper / r.Discharge)
-				}
+			if keys := jsonKeys(t, rawDoc.Table[i]); keys[len(keys)-1] != "overbank_share" {
+				t.Errorf("banks %v: row at %g m: keys %q, want overbank_share last", banks, r.Stage, keys)
 			}
-			top := doc.Table[len(doc.Table)-1]
-			aS := c.T * 0.5 * (top.Stage - c.Stage) * c.SE
-			if got, want := math.Log(top.TotalUpper/top.Discharge), math.Hypot(wj, aS); !(wj > 0) || math.Abs(got-want) > 1e-4*want {
-				t.Errorf("without banks: total half-width at %g m %.6g, want %.6g from the report (w_j %g)", top.Stage, got, want, wj)
+			if ext := r.Basis == "conveyance-slope"; ext != (r.Share != nil) {
+				t.Errorf("banks %v: row at %g m, basis %s: overbank_share %v", banks, r.Stage, r.Basis, r.Share)
 			}
+		}
+		top := doc.Table[len(doc.Table)-1]
+		if top.Share == nil || banks != (*top.Share > *c.Share) || !banks && *top.Share != 0 {
+			t.Fatalf("banks %v: overbank_share %v at the top row, %v at the join", banks, top.Share, *c.Share)
+		}
+		if banks {
+			aN = 1.959964 * math.Abs(*top.Share-*c.Share) * *c.NLogSD
+		}
+		aS := c.T * 0.5 * (top.Stage - c.Stage) * c.SE
+		if got, want := math.Log(top.TotalUpper/top.Discharge), math.Sqrt(wj*wj+aS*aS+aN*aN); !(wj > 0) || math.Abs(got-want) > 1e-4*want {
+			t.Errorf("banks %v: total half-width at %g m %.6g, want %.6g from the report (w_j %g, a_S %g, a_n %g)", banks, top.Stage, got, want, wj, aS, aN)
 		}
 		buf.Reset()
 		if err := results.WriteFitText(&buf, rep); err != nil {
