@@ -16,7 +16,8 @@ import (
 // gauged.FarBelowOthersMultiple times their stage span is refused by both
 // fit methods, naming it: a missing-value code −99999.9999 carrying
 // 45.2 m³/s among gaugings at 0.4 to 3 m is; a genuine low-flow gauging
-// 0.3 m under others at 5 to 6 m is fitted. The gaugings follow
+// 0.3 m under others at 5 to 6 m is fitted, and so is one 0.77 m under
+// others within 0.05 m of one another (the span is taken as at least 1 m). The gaugings follow
 // Q = a (h − e)^b exactly, so every fit that starts finds its rating.
 func TestFitGaugingFarBelowOthers(t *testing.T) {
 	law := func(hs []float64, a, e, b float64) []gauged.Gauging {
@@ -37,6 +38,10 @@ func TestFitGaugingFarBelowOthers(t *testing.T) {
 	}{
 		{"missing-value code", slip, true},
 		{"genuine low flow", law([]float64{4.7, 5.0, 5.2, 5.4, 5.6, 5.8, 6.0}, 20, 4.5, 1.6), false},
+		// A short period whose other gaugings lie within 0.05 m (as three
+		// of the USGS 01594440 gaugings of 2001 do, in feet): their span is
+		// taken as at least 1 m, so a low flow 0.77 below them is fitted.
+		{"others close together", law([]float64{4.52, 5.29, 5.30, 5.34, 5.31}, 20, 4.0, 1.6), false},
 		{"missing-value code, left out", append(slip[:len(slip)-1:len(slip)-1],
 			gauged.Gauging{Stage: -99999.9999, Discharge: 45.2, Quality: rating.Good, Source: "g.csv:9", Exclude: "slip"}), false},
 	} {

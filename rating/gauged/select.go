@@ -213,6 +213,15 @@ func (d *data) countIn(lo, hi float64) int {
 // the datum puts a gauging thousands of spans away.
 const FarBelowOthersMultiple = 10
 
+// farBelowSpanFloor is the least stage span, in metres, that
+// farBelowOthers judges by: the other gaugings of a short period often lie
+// within centimetres of one another, and a span that small would refuse an
+// ordinary low flow a few tenths of a metre below them. With it a gauging
+// is refused only when it lies more than 10 m (about 33 ft) below the
+// others, which a missing-value code or a datum slip does and no low flow
+// does (a project choice).
+const farBelowSpanFloor = 1.0
+
 // ErrGaugingFarBelowOthers is the cause of a gauging with flow, used by a
 // fit, whose gauge height lies below the lowest of the other gaugings used
 // by more than FarBelowOthersMultiple times their stage span: the check
@@ -222,9 +231,9 @@ var ErrGaugingFarBelowOthers = errors.New("a gauging with flow lies far below th
 // farBelowOthers refuses the lowest gauging of d (the gaugings a fit
 // uses, with flow, ascending in stage) when it lies below the lowest of
 // the others by more than FarBelowOthersMultiple times their stage span
-// (ErrGaugingFarBelowOthers, naming it by its source and gauge height).
-// With fewer than two others, or others all at one stage, there is no
-// span to judge by and nothing is refused. Every fit passes this check,
+// (ErrGaugingFarBelowOthers, naming it by its source and gauge height),
+// the span taken as at least farBelowSpanFloor (1 m, 3.28 ft). With fewer
+// than two others nothing is refused. Every fit passes this check,
 // by least squares or Bayesian inference, before it starts.
 func farBelowOthers(gs []Gauging, d *data, u rating.Units) error {
 	n := d.n()
@@ -232,11 +241,16 @@ func farBelowOthers(gs []Gauging, d *data, u rating.Units) error {
 		return nil
 	}
 	lo, span := d.h[1], d.h[n-1]-d.h[1]
-	if !(span > 0) || !(lo-d.h[0] > FarBelowOthersMultiple*span) {
+	floor := farBelowSpanFloor
+	if u == rating.US {
+		floor /= 0.3048
+	}
+	if !(lo-d.h[0] > FarBelowOthersMultiple*math.Max(span, floor)) {
 		return nil
 	}
+	span = math.Max(span, floor)
 	g := gs[d.index[0]]
-	return errorf("%w: %s: gauge height %g with %g %s is %s %s below the lowest other gauging (at %s %s), more than %d times the other gaugings' stage span of %s %s: check for a missing-value code or a slip of the datum",
+	return errorf("%w: %s: gauge height %g with %g %s is %s %s below the lowest other gauging (at %s %s), more than %d times the other gaugings' stage span (at least 1 m, 3.28 ft), %s %s: check for a missing-value code or a slip of the datum",
 		ErrGaugingFarBelowOthers, g.label(), g.Stage, g.Discharge, u.Discharge(),
 		rating.PlainFigures(lo-d.h[0], 4), u.Length(), gh(lo), u.Length(), FarBelowOthersMultiple, rating.PlainFigures(span, 3), u.Length())
 }
