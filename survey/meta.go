@@ -234,8 +234,11 @@ func siteRow(meta map[string]string, rec []string, inSheet, belowHeader bool) (m
 // value. Cells to the right of the value (a title or a page number the
 // crew wrote beside the site block) do not stop the row being a key row:
 // they are not read, and their columns (0-based) are returned in extra
-// for the reader's warning. No table's column is named as a key, so a
-// header row is never taken for a key row.
+// for the reader's warning, so long as a blank cell stands between the
+// value and them. A row whose third cell is written (site, time, stage,
+// discharge) is a header whose first column happens to be named as a key,
+// not a key row: a crew's title stands apart from the block, while a
+// header's names follow one another.
 func metaRow(rec []string) (key, value string, extra []int, ok bool) {
 	cells := trimAll(rec)
 	for len(cells) > 0 && cells[len(cells)-1] == "" {
@@ -250,6 +253,9 @@ func metaRow(rec []string) (key, value string, extra []int, ok bool) {
 	}
 	if len(cells) >= 2 {
 		value = cells[1]
+	}
+	if len(cells) >= 3 && cells[2] != "" {
+		return "", "", nil, false
 	}
 	for c := 2; c < len(cells); c++ {
 		if cells[c] != "" {

@@ -82,6 +82,24 @@ func TestSiteBlockFieldsBesideCSV(t *testing.T) {
 	}
 }
 
+// A header whose first column is named as a site key (a logger's or a
+// multi-site export's `site` column) is a header, not a key row: its names
+// follow one another, while a crew's title beside a block stands apart.
+func TestHeaderFirstColumnNamedAsKey(t *testing.T) {
+	for _, c := range []struct{ in, col string }{
+		{"site,time,stage,discharge\nTallow Ck,2024-01-01T10:00,1.3,0.9\n", "stage"},
+		{"datum,station,elevation\nAHD,0,1\nAHD,1,0\n", "station"},
+	} {
+		tb, err := ParseCSV(strings.NewReader(c.in), "x.csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if tb.Column(c.col) < 0 || len(tb.Meta) != 0 || len(tb.Records) == 0 {
+			t.Errorf("%q: header %q, meta %q, %d rows", c.in, tb.Header, tb.Meta, len(tb.Records))
+		}
+	}
+}
+
 // A hidden row is read, and the rows hidden are named in one warning of
 // the sheet, for a table and a stage record alike.
 func TestHiddenRowsRead(t *testing.T) {

@@ -435,7 +435,7 @@ func instructionLines(opt TemplateOptions, names []string) [][2]string {
 		{"this workbook", "Field sheets for one site: a cross-section survey per XS sheet (or by grid coordinates on the coordinates sheet), " +
 			"the reach and its high-water marks, and discharge measurements. " +
 			"Fill the cream cells; keep the header rows as they are. Blank rows are skipped. " +
-			"Cells to the right of a site-block value (a title, a page number) are not read, with a warning; " +
+			"Cells to the right of a site-block value, past a blank cell (a title, a page number), are not read, with a warning; " +
 			"in the rows below the header a value to the right of the last headed column is refused: write remarks in the " + ColNote + " column."},
 		{"site block", fmt.Sprintf("The first %d rows of each cross-section sheet, the coordinate sheet and the gaugings sheet name the site: %s. "+
 			"Write each value beside its key (a date as yyyy-mm-dd); the column headers follow in row %d, the points or gaugings below them.",
