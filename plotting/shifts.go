@@ -117,6 +117,18 @@ func excludedMarks(p *plot.Plot, gs []gauged.GaugingShift, at func(gauged.Gaugin
 	return in, out
 }
 
+// axisSpan is a plotter that draws nothing and only widens the axes to
+// its points.
+type axisSpan plotter.XYs
+
+// Plot draws nothing.
+func (axisSpan) Plot(draw.Canvas, *plot.Plot) {}
+
+// DataRange is the range of the points.
+func (e axisSpan) DataRange() (xmin, xmax, ymin, ymax float64) {
+	return plotter.XYRange(plotter.XYs(e))
+}
+
 // addExcludedPoints draws excluded gaugings hollow and grey, in the shape
 // of their quality, with one legend entry, keeping the axes' ranges.
 func addExcludedPoints(p *plot.Plot, pts []gaugingPoint) {
@@ -197,7 +209,18 @@ func shiftTimePanel(c *gauged.ShiftCheck, site string) (*plot.Plot, figure, erro
 		}
 	}
 	if len(pts) == 0 {
-		return nil, figure{}, fmt.Errorf("%w: no gauging used has a measured shift", ErrNoData)
+		// Every gauging with a shift is excluded: they set the axes, drawn
+		// hollow, rather than the run failing for want of a figure.
+		var xy plotter.XYs
+		for _, g := range excluded {
+			if t := float64(g.Time.Unix()); finite(t, g.Shift) {
+				xy = append(xy, plotter.XY{X: t, Y: g.Shift})
+			}
+		}
+		if len(xy) == 0 {
+			return nil, figure{}, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+		}
+		p.Add(axisSpan(xy))
 	}
 	if len(applied) > 0 {
 		sort.Slice(applied, func(i, j int) bool { return applied[i].X < applied[j].X })
@@ -338,7 +361,19 @@ func shiftStagePanel(c *gauged.ShiftCheck, site string) (*plot.Plot, figure, err
 		}
 	}
 	if len(pts) == 0 {
-		return nil, figure{}, fmt.Errorf("%w: no gauging used has a measured shift", ErrNoData)
+		// Every gauging with a shift is excluded: they set the axes, drawn
+		// hollow, rather than the run failing for want of a figure.
+		var xy plotter.XYs
+		for _, g := range excluded {
+			if finite(g.Shift, g.Stage) {
+				xy = append(xy, plotter.XY{X: g.Shift, Y: g.Stage})
+				lo, hi = math.Min(lo, g.Stage), math.Max(hi, g.Stage)
+			}
+		}
+		if len(xy) == 0 {
+			return nil, figure{}, fmt.Errorf("%w: no gauging has a measured shift", ErrNoData)
+		}
+		p.Add(axisSpan(xy))
 	}
 	for _, d := range c.History.Shifts {
 		for _, q := range d.Points {
