@@ -329,7 +329,7 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 }
 
 // DryFootNote is the input note of a rating table that takes its gauge
-// height of zero flow e from its dry first row (see DryFoot), at the
+// height of zero flow e from the last dry row at its foot (see DryFoot), at the
 // position at (the row), flag naming the flag not given that would give
 // e ("" when there is none).
 func DryFootNote(at string, e float64, flag string) string {
@@ -337,7 +337,7 @@ func DryFootNote(at string, e float64, flag string) string {
 	if flag != "" {
 		given = " (" + flag + " not given)"
 	}
-	return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's dry first row%s: the table is read log-linearly in (h − e) between rows",
+	return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot%s: the table is read log-linearly in (h − e) between rows",
 		at, strconv.FormatFloat(e, 'g', -1, 64), given)
 }
 

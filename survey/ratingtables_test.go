@@ -285,7 +285,7 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 		note        string
 	}{
 		{"at the dry foot", table, RatingTableOptions{Datum: 100}, true, 0, "",
-			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's dry first row (--zero-flow not given): the table is read log-linearly in (h − e) between rows"},
+			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's last dry row at its foot (--zero-flow not given): the table is read log-linearly in (h − e) between rows"},
 		{"at the dry foot, flag named", table, RatingTableOptions{Datum: 100, ZeroFlowFlag: "--hydraulic-zero-flow"}, true, 0, "", "(--hydraulic-zero-flow not given)"},
 		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, "", ""},
 		{"no dry row", wet, RatingTableOptions{Datum: 100}, false, 0,

@@ -23,7 +23,7 @@ func TestInputNotesEveryFormat(t *testing.T) {
 		{"rate", []string{"rate", in(demoCoordSurvey), "--slope", "0.003"}, projected},
 		{"solve discharge", []string{"solve", in(demoCoordSurvey), "--discharge", "2", "--slope", "0.003"}, projected},
 		{"solve area", []string{"solve", in(demoCoordSurvey), "--area", "2"}, projected},
-		{"backwater", []string{"backwater", in(demoBWReach), "--discharges", "10,20", "--boundary", "rating:" + in("tallow-xs1-rating.csv")}, "is the stage of the table's dry first row"},
+		{"backwater", []string{"backwater", in(demoBWReach), "--discharges", "10,20", "--boundary", "rating:" + in("tallow-xs1-rating.csv")}, "is the stage of the table's last dry row at its foot"},
 		{"compare ratings", []string{"compare", in("tallow-rating-7.csv"), in("tallow-rating-8.csv")}, noUnit},
 	} {
 		t.Run(tc.name, func(t *testing.T) {

@@ -24,7 +24,7 @@ func TestPlotDryFootZeroFlow(t *testing.T) {
 	if err := os.WriteFile(wet, []byte("stage,discharge\n0.6,0.3\n1.0,2.5\n2.0,12\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	const note = "the gauge height of zero flow e = 0.5 is the stage of the table's dry first row (--zero-flow not given)"
+	const note = "the gauge height of zero flow e = 0.5 is the stage of the table's last dry row at its foot (--zero-flow not given)"
 	for _, c := range []struct {
 		name string
 		args []string

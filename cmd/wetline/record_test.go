@@ -508,7 +508,7 @@ func TestRecordTableFoot(t *testing.T) {
 				tc.warning != "" && !strings.Contains(errs, tc.warning) {
 				t.Errorf("warning %q wanted: %s", tc.warning, errs)
 			}
-			note := "input: " + table + ":2: the gauge height of zero flow e = 0.2 is the stage of the table's dry first row (--zero-flow not given)"
+			note := "input: " + table + ":2: the gauge height of zero flow e = 0.2 is the stage of the table's last dry row at its foot (--zero-flow not given)"
 			if got := strings.Contains(errs, note); got != tc.note {
 				t.Errorf("note of the dry first row: %v, want %v: %s", got, tc.note, errs)
 			}

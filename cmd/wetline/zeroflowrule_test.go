@@ -31,7 +31,7 @@ func TestZeroFlowFromDryFirstRow(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	note := foot + ":2: the gauge height of zero flow e = 0.2 is the stage of the table's dry first row (--zero-flow not given)"
+	note := foot + ":2: the gauge height of zero flow e = 0.2 is the stage of the table's last dry row at its foot (--zero-flow not given)"
 	for _, zero := range [][]string{nil, {"--zero-flow", "0.2"}} {
 		out, errs, code := runCLI(t, append([]string{"shifts", gaugings, "--rating", foot, "--format", "json"}, zero...)...)
 		if code != 0 {
