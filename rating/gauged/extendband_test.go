@@ -58,18 +58,8 @@ func TestExtensionBandAllowances(t *testing.T) {
 		}
 		gs = append(gs, gauged.Gauging{Stage: h, Discharge: q * math.Exp(0.03*rng.NormFloat64()), Quality: rating.Fair})
 	}
-	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, To: 4, Step: 0.05})
-	if err != nil {
-		t.Fatal(err)
-	}
+	f, tab := joinedTable(t, gs, survey)
 	e := tab.Extension
-	if e == nil || e.Join == nil {
-		t.Fatalf("no joined extension: %q", tab.Warnings)
-	}
 	// The line of ln S_i, by hand.
 	n := len(e.Points)
 	var sx, sy float64
@@ -210,18 +200,8 @@ func noBanksOf(t *testing.T, spec string, n, slope float64) rating.HydraulicCurv
 func TestExtensionBandNoBanks(t *testing.T) {
 	survey := noBanksOf(t, floodRect, 0.035, 0.001)
 	gs := gaugeTruth(t, built(t, floodRect, 0.030, 0.001), linspace(0.4, 1.9, 12), rand.New(rand.NewPCG(22, 22)))
-	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, To: 4, Step: 0.05})
-	if err != nil {
-		t.Fatal(err)
-	}
+	f, tab := joinedTable(t, gs, survey)
 	e := tab.Extension
-	if e == nil || e.Join == nil {
-		t.Fatalf("no joined extension: %q", tab.Warnings)
-	}
 	if e.NLogSD != 0 || e.NCV != 0 || e.Join.OverbankShare != 0 {
 		t.Errorf("σ_lnf %g, n cv %g, φ_ob at the join %g: want 0 without bank stations", e.NLogSD, e.NCV, e.Join.OverbankShare)
 	}
@@ -257,4 +237,22 @@ func TestExtensionBandNoBanks(t *testing.T) {
 	if tb.Extension == nil || !(tb.Extension.NLogSD > 0) || hasWarning(tb.Warnings, "no bank stations") {
 		t.Errorf("banked section: extension %v, warnings %q", tb.Extension, tb.Warnings)
 	}
+}
+
+// joinedTable fits one control to gs and tables it to 4 m in steps of
+// 0.05 m with survey's conveyance-slope extension, which must be joined.
+func joinedTable(t *testing.T, gs []gauged.Gauging, survey rating.HydraulicCurve) (*gauged.ControlFit, gauged.ControlTable) {
+	t.Helper()
+	f, err := gauged.FitControls(gs, gauged.ControlOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := f.Table(gauged.ControlTableOptions{Hydraulic: &survey, To: 4, Step: 0.05})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if e := tab.Extension; e == nil || e.Join == nil {
+		t.Fatalf("no joined extension: %q", tab.Warnings)
+	}
+	return f, tab
 }
