@@ -369,25 +369,8 @@ func TestInterruptAtEveryPoint(t *testing.T) {
 				}
 				args = append(args, a)
 			}
-			cmd := exec.Command(os.Args[0], args...)
-			cmd.Env = append(os.Environ(), helperEnv+"=1")
-			var stderr strings.Builder
-			cmd.Stderr = &stderr
-			err := cmd.Run()
 			what := fmt.Sprintf("%v at %q (%d)", c.args, c.point, rep)
-			var ee *exec.ExitError
-			if !errors.As(err, &ee) || ee.ExitCode() != 128+int(c.sig) {
-				t.Errorf("%s: %v, want exit status %d; stderr:\n%s", what, err, 128+int(c.sig), stderr.String())
-			}
-			var said []string
-			for _, line := range strings.Split(stderr.String(), "\n") {
-				if strings.HasPrefix(line, "wetline:") {
-					said = append(said, line)
-				}
-			}
-			if len(said) != 1 || said[0] != interruptNote {
-				t.Errorf("%s: said %q, want the one line %q", what, said, interruptNote)
-			}
+			checkSignalled(t, what, args, c.sig, interruptNote)
 			if got := listing(t, dir); got != "" {
 				t.Errorf("%s: left %q in the output's folder", what, got)
 			}
@@ -469,25 +452,8 @@ func TestInterruptAfterCommit(t *testing.T) {
 				t.Fatalf("earlier output: exit %d: %s", code, errs)
 			}
 			before := readTree(t, out)
-			cmd := exec.Command(os.Args[0], append([]string{"at", "done", strconv.Itoa(int(c.sig))}, args...)...)
-			cmd.Env = append(os.Environ(), helperEnv+"=1")
-			var stderr strings.Builder
-			cmd.Stderr = &stderr
-			err := cmd.Run()
 			what := fmt.Sprintf("%v after the commit (%d)", args, rep)
-			var ee *exec.ExitError
-			if !errors.As(err, &ee) || ee.ExitCode() != 128+int(c.sig) {
-				t.Errorf("%s: %v, want exit status %d; stderr:\n%s", what, err, 128+int(c.sig), stderr.String())
-			}
-			var said []string
-			for _, line := range strings.Split(stderr.String(), "\n") {
-				if strings.HasPrefix(line, "wetline:") {
-					said = append(said, line)
-				}
-			}
-			if len(said) != 1 || said[0] != interruptedAfterNote {
-				t.Errorf("%s: said %q, want the one line %q", what, said, interruptedAfterNote)
-			}
+			checkSignalled(t, what, append([]string{"at", "done", strconv.Itoa(int(c.sig))}, args...), c.sig, interruptedAfterNote)
 			if readTree(t, out) == before {
 				t.Errorf("%s: the earlier output was not replaced", what)
 			}
@@ -517,4 +483,29 @@ func readTree(t *testing.T, path string) string {
 		fmt.Fprintf(&all, "%s:\n%s", n, b)
 	}
 	return all.String()
+}
+
+// checkSignalled runs this test binary as the program with args (the
+// helper signals itself at the point they name) and checks that it ends
+// with 128 plus sig and says exactly one line, note; what names the case.
+func checkSignalled(t *testing.T, what string, args []string, sig syscall.Signal, note string) {
+	t.Helper()
+	cmd := exec.Command(os.Args[0], args...)
+	cmd.Env = append(os.Environ(), helperEnv+"=1")
+	var stderr strings.Builder
+	cmd.Stderr = &stderr
+	err := cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != 128+int(sig) {
+		t.Errorf("%s: %v, want exit status %d; stderr:\n%s", what, err, 128+int(sig), stderr.String())
+	}
+	var said []string
+	for _, line := range strings.Split(stderr.String(), "\n") {
+		if strings.HasPrefix(line, "wetline:") {
+			said = append(said, line)
+		}
+	}
+	if len(said) != 1 || said[0] != note {
+		t.Errorf("%s: said %q, want the one line %q", what, said, note)
+	}
 }
