@@ -148,8 +148,23 @@ func (fs *flagSet) stdinPlaces() []string {
 			places = append(places, fmt.Sprintf("argument %d", i+1))
 		}
 	}
+	fs.inputValues(func(f *pflag.Flag, prefix, v string) bool {
+		if v == "-" || strings.HasPrefix(v, "-@") {
+			places = append(places, flagWords(f)+" "+prefix+v)
+		}
+		return true
+	})
+	return places
+}
+
+// inputValues calls yield with every value given to an input flag (marked
+// with input; each value of a list flag), the flag's prefix (a kind such
+// as "rating:") cut off, skipping values without it, until yield returns
+// false.
+func (fs *flagSet) inputValues(yield func(f *pflag.Flag, prefix, v string) bool) {
+	done := false
 	fs.VisitAll(func(f *pflag.Flag) {
-		if len(f.Annotations[inputKey]) == 0 || !f.Changed {
+		if done || len(f.Annotations[inputKey]) == 0 || !f.Changed {
 			return
 		}
 		values := []string{f.Value.String()}
@@ -158,18 +173,16 @@ func (fs *flagSet) stdinPlaces() []string {
 		}
 		prefix := f.Annotations[inputKey][0]
 		for _, v := range values {
-			if prefix != "" {
-				var ok bool
-				if v, ok = strings.CutPrefix(v, prefix); !ok {
-					continue
-				}
+			v, ok := strings.CutPrefix(v, prefix)
+			if !ok {
+				continue
 			}
-			if v == "-" || strings.HasPrefix(v, "-@") {
-				places = append(places, flagWords(f)+" "+prefix+v)
+			if !yield(f, prefix, v) {
+				done = true
+				return
 			}
 		}
 	})
-	return places
 }
 
 // missingInput names the flag of an input that could not be opened
@@ -194,25 +207,12 @@ func (fs *flagSet) missingInput(err error) error {
 		return err
 	}
 	var place string
-	fs.VisitAll(func(f *pflag.Flag) {
-		if place != "" || len(f.Annotations[inputKey]) == 0 || !f.Changed {
-			return
+	fs.inputValues(func(f *pflag.Flag, _, v string) bool {
+		if v == path || strings.HasPrefix(v, path+"@") { // FILE@TIME
+			place = flagWords(f)
+			return false
 		}
-		values := []string{f.Value.String()}
-		if sv, ok := f.Value.(pflag.SliceValue); ok {
-			values = sv.GetSlice()
-		}
-		prefix := f.Annotations[inputKey][0]
-		for _, v := range values {
-			v, ok := strings.CutPrefix(v, prefix)
-			if !ok {
-				continue
-			}
-			if v == path || (strings.HasPrefix(v, path+"@") && path != "") { // FILE@TIME
-				place = flagWords(f)
-				return
-			}
-		}
+		return true
 	})
 	if place == "" {
 		return err
