@@ -310,3 +310,22 @@ func TestControlTableToLimit(t *testing.T) {
 		}
 	}
 }
+
+// Chains held at different breakpoints are not joined by more draws: the
+// warning asks for given breakpoints, fewer controls or priors instead.
+// Two controls of nearly one power law leave the breakpoint unsettled.
+func TestUnsettledBreakpointAdvice(t *testing.T) {
+	truth := mustRating(t, []gauged.Control{{A: 40, B: 3.58, C: 1.57}, {A: 26.4, B: 3.30, C: 1.87, From: 4.87, Joint: gauged.Replace}})
+	gs := noisy(truth, linspace(3.7, 6.5, 24), []rating.Quality{rating.Good}, rand.New(rand.NewPCG(7, 7)))
+	f, err := gauged.FitBayes(gs, gauged.BayesOptions{ControlOptions: gauged.ControlOptions{Controls: make([]gauged.ControlSpec, 2)}, Chains: 4, Draws: 2000, Seed: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	p := f.Posterior
+	if p.Converged || !strings.HasPrefix(p.RHatParam, "break") {
+		t.Fatalf("the chains settled (R̂ %.3f for %s): this test needs gaugings that leave the breakpoint unsettled", p.RHatMax, p.RHatParam)
+	}
+	if !hasWarning(f.Warnings, "--breaks") || hasWarning(f.Warnings, "draw more or check") {
+		t.Errorf("warnings %q: want the breakpoint advice", f.Warnings)
+	}
+}

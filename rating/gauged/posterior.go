@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
+	"strings"
 
 	"gonum.org/v1/gonum/stat"
 )
@@ -209,8 +210,14 @@ func RHatText(v float64) string {
 func (p *Posterior) warnings() []string {
 	var out []string
 	if !p.Converged {
-		out = append(out, sayf("the chains disagree (R̂ %s for %s, above %g): the posterior is not established and bands are withheld unless asked; draw more or check the controls and priors",
-			rhatIs(p.RHatMax), p.RHatParam, RHatLimit))
+		advice := "draw more or check the controls and priors"
+		if strings.HasPrefix(p.RHatParam, "break") {
+			// Chains held at different breakpoints are in different
+			// modes, which more draws of a random walk seldom join.
+			advice = "the gaugings do not settle that breakpoint, and more draws seldom join chains held at different breakpoints: give the breakpoints (--breaks) where the control is known to change, fit fewer controls, or give priors from the section (--section)"
+		}
+		out = append(out, sayf("the chains disagree (R̂ %s for %s, above %g): the posterior is not established and bands are withheld unless asked; %s",
+			rhatIs(p.RHatMax), p.RHatParam, RHatLimit, advice))
 	}
 	if p.ESSMin < MinESS {
 		out = append(out, sayf("the effective sample size of %s is %.0f, below %d: draw more for stable bands", p.ESSParam, p.ESSMin, MinESS))
