@@ -1,8 +1,6 @@
 package rating
 
 import (
-	"errors"
-	"fmt"
 	"math"
 	"strconv"
 
@@ -12,16 +10,6 @@ import (
 // ShiftTolerance is the width (length unit) to which a stage is found by
 // bisection when a rating is inverted (a shift, a stage for a discharge).
 const ShiftTolerance = 1e-7
-
-// shiftMaxBisect bounds the bisection steps of an inversion.
-const shiftMaxBisect = 200
-
-// shiftMaxExpand bounds how many section depths an inversion searches above
-// the section's lower end (on extended ends) for a large discharge.
-const shiftMaxExpand = 10
-
-// ErrNoStageForDischarge is returned when no stage of a rating carries a discharge.
-var ErrNoStageForDischarge = errors.New("no stage of the rating carries this discharge")
 
 // HydraulicCurve is the hydraulic rating of a section read at gauge
 // heights: the stage (elevation) for gauge height h is h + Datum.
@@ -56,37 +44,46 @@ func (c HydraulicCurve) Bottom() float64 { return DecimalDifference(c.Geometry.B
 // Top is the gauge height of the lower end of the section.
 func (c HydraulicCurve) Top() float64 { return DecimalDifference(c.Geometry.Top(), c.Datum) }
 
-// Stage returns the gauge height at which the curve carries q > 0, by
-// bisection between the bottom and the top of the section (and above the
-// top, on extended ends, when the options allow), to ShiftTolerance. The
-// curve is taken to rise with stage.
+// Stage returns the gauge height at which the curve carries q in uniform
+// flow at its slope: the lowest of the normal stages NormalStages finds,
+// where the rating first reaches q on a rising branch. A closed conduit
+// given a discharge between its full-flow and its greatest part-full one
+// has a second normal stage above, on the falling branch, and a compound
+// section merged into one subsection just above bankfull may have
+// several; the lowest is returned, to ShiftTolerance. The
+// search goes above the section's top as NormalStages' does (between
+// vertical walls, unless Options.Geometry.NoExtend). The curve's
+// subsections are those of its geometry (Options.Composite plays no part,
+// as in Row). Errors are those of NormalStages: ErrSlope without a slope,
+// ErrTarget for q not positive and finite, ErrNoRoot when no stage
+// carries q.
 func (c HydraulicCurve) Stage(q float64) (float64, error) {
-	if !(q > 0) || math.IsInf(q, 0) {
-		return math.NaN(), fmt.Errorf("discharge %g: %w", q, ErrNoStageForDischarge)
+	opt := c.Options
+	opt.Composite = Split
+	roots, err := NormalStages(c.Geometry, q, opt)
+	if err != nil {
+		return math.NaN(), err
 	}
-	lo, hi := c.Bottom(), c.Top()
-	depth := hi - lo
-	if !(depth > 0) {
-		depth = 1
+	r := roots[0]
+	h := r.Stage - c.Datum
+	if r.Jump {
+		return h, nil
 	}
-	for i := 0; ; i++ {
-		qh, err := c.Discharge(hi)
-		if err != nil {
-			return math.NaN(), err
-		}
-		if qh >= q {
-			break
-		}
-		if i == shiftMaxExpand || c.Options.Geometry.NoExtend {
-			return math.NaN(), fmt.Errorf("discharge %g is above %g at gauge height %g: %w", q, qh, hi, ErrNoStageForDischarge)
-		}
-		lo, hi = hi, hi+depth
+	// The root is bisected on to ShiftTolerance, the width of every
+	// inversion of a rating, inside the bracket its own tolerance gives
+	// (it is on a rising branch: nothing flows at the lowest point).
+	w := 2 * DepthTolerance * math.Max(r.Depth, ShiftTolerance)
+	lo, hi := h-w, h+w
+	qlo, errLo := c.Discharge(lo)
+	qhi, errHi := c.Discharge(hi)
+	if errLo != nil || errHi != nil || !(qlo < q && qhi >= q) {
+		return h, nil
 	}
-	for i := 0; i < shiftMaxBisect && hi-lo > ShiftTolerance; i++ {
+	for i := 0; i < maxShiftBisect && hi-lo > ShiftTolerance; i++ {
 		mid := 0.5 * (lo + hi)
 		qm, err := c.Discharge(mid)
 		if err != nil {
-			return math.NaN(), err
+			return h, nil
 		}
 		if qm < q {
 			lo = mid
@@ -96,6 +93,9 @@ func (c HydraulicCurve) Stage(q float64) (float64, error) {
 	}
 	return 0.5 * (lo + hi), nil
 }
+
+// maxShiftBisect bounds the bisection steps of HydraulicCurve.Stage.
+const maxShiftBisect = 64
 
 // DatumTerm words the datum term of "elevation = gauge height ± D": "+ 10"
 // or "- 10" for d = ±10 (length unit, to six significant digits; the

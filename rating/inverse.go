@@ -112,6 +112,26 @@ func (s solver) closed() (bool, error) {
 	return w.Full, nil
 }
 
+// ceiling returns stage h, or the section's top where the geometry
+// refuses h: above the crown of a closed conduit, or above an end of a
+// survey with Options.NoExtend (subdivide.ErrAboveEnds). A scan or probe
+// that would go above the top stops there instead.
+func (s solver) ceiling(h float64) (float64, error) {
+	top := s.g.Top()
+	if !(h > top) {
+		return h, nil
+	}
+	if closed, err := s.closed(); err != nil || closed {
+		return top, err
+	}
+	if _, err := s.g.At(h, s.opt.Geometry); errors.Is(err, subdivide.ErrAboveEnds) {
+		return top, nil
+	} else if err != nil {
+		return h, err
+	}
+	return h, nil
+}
+
 // searchRange returns the stage range to search: from the bottom to the
 // crown of a closed conduit, else to the top of the section, doubled in
 // depth (at most MaxSearchDoublings times, and never where the geometry
@@ -540,7 +560,9 @@ func (s solver) energy(h, q float64) (float64, error) {
 // energy itself is minimised: the range up to the highest critical stage
 // (doubled in depth, or to the section's top when that is lower but at
 // least a quarter of that depth above it) is scanned and each local
-// minimum refined by golden-section search; the least is returned.
+// minimum refined by golden-section search; the least is returned. The
+// scan never goes above the top where the geometry refuses such a stage
+// (a conduit's crown, a survey with Options.NoExtend): it stops there.
 //
 // References:
 //
@@ -554,7 +576,8 @@ func MinSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoin
 // SpecificEnergyMinima returns every local minimum of the specific energy
 // of discharge q in g, in stage order, found as MinSpecificEnergy finds
 // them (a scan of the range up to the highest critical stage, doubled in
-// depth, each local minimum refined by golden-section search). Where α is
+// depth, and at most to the top where the geometry refuses a stage above
+// it, each local minimum refined by golden-section search). Where α is
 // constant each lies at a critical stage; where α changes with stage (a
 // compound section) a minimum can lie off every critical stage, since
 // dE/dh = 1 − α·Q²·T/(g·A³) − (Q²/2gA²)·dα/dh. Errors are those of
@@ -585,13 +608,15 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 	// Up to twice the depth of the highest critical stage, and never to
 	// less than a quarter of that depth above it: a minimum at that stage
 	// must lie inside the scan, which finds only interior minima, even
-	// when it stands in the walls above the section's ends.
+	// when it stands in the walls above the section's ends. Where the
+	// geometry refuses a stage above its top (a conduit's crown, a survey
+	// with Options.NoExtend) the scan stops at the top, and a minimum in
+	// its last step is looked for there (below).
 	hc := crit[len(crit)-1].Stage
-	hi := math.Min(lo+2*(hc-lo), math.Max(hc+(hc-lo)/4, s.g.Top()))
-	if closed, err := s.closed(); err != nil {
+	want := math.Min(lo+2*(hc-lo), math.Max(hc+(hc-lo)/4, s.g.Top()))
+	hi, err := s.ceiling(want)
+	if err != nil {
 		return EnergyPoint{}, nil, err
-	} else if closed {
-		hi = math.Min(hi, s.g.Top())
 	}
 	e := func(h float64) (float64, error) { return s.energy(h, q) }
 	best := EnergyPoint{Energy: math.Inf(1)}
@@ -602,10 +627,27 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 		}
 	}
 	step := (hi - lo) / ScanSteps
+	// add keeps a refined local minimum; a flat bottom can satisfy two
+	// overlapping triples: one point is kept per minimum, the lower.
+	add := func(hm, vm float64) {
+		consider(hm, vm)
+		pt := EnergyPoint{Stage: hm, Depth: hm - lo, Energy: vm}
+		switch n := len(minima); {
+		case n > 0 && hm-minima[n-1].Stage <= 2*step:
+			if vm < minima[n-1].Energy {
+				minima[n-1] = pt
+			}
+		case !math.IsInf(vm, 0):
+			minima = append(minima, pt)
+		}
+	}
 	prev := make([]float64, 0, 3)
 	hs := make([]float64, 0, 3)
 	for i := 0; i <= ScanSteps; i++ {
 		h := lo + (hi-lo)*float64(i)/ScanSteps
+		if i == ScanSteps {
+			h = hi
+		}
 		v, err := e(h)
 		if err != nil {
 			return best, minima, err
@@ -618,20 +660,23 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 				if err != nil {
 					return best, minima, err
 				}
-				consider(hm, vm)
-				// A flat bottom can satisfy two overlapping triples:
-				// keep one point per minimum, the lower.
-				pt := EnergyPoint{Stage: hm, Depth: hm - lo, Energy: vm}
-				switch n := len(minima); {
-				case n > 0 && hm-minima[n-1].Stage <= 2*step:
-					if vm < minima[n-1].Energy {
-						minima[n-1] = pt
-					}
-				case !math.IsInf(vm, 0):
-					minima = append(minima, pt)
-				}
+				add(hm, vm)
 			}
 			prev, hs = prev[1:], hs[1:]
+		}
+	}
+	// A scan cut at the top misses a minimum in its last step, where the
+	// energy still falls from the last sample but one to the top: refined
+	// there, it is a local minimum when it lies below the top by more than
+	// the depth tolerance (else the energy falls all the way to the top,
+	// whose sample has been considered).
+	if hi < want && len(prev) == 2 && prev[1] < prev[0] {
+		hm, vm, err := GoldenSection(e, hs[0], hs[1], false)
+		if err != nil {
+			return best, minima, err
+		}
+		if hi-hm > DepthTolerance*(hi-lo) {
+			add(hm, vm)
 		}
 	}
 	for _, c := range crit {

@@ -789,3 +789,49 @@ func TestNoRootSaysTheRangeSearched(t *testing.T) {
 		}
 	}
 }
+
+// With Options.NoExtend a discharge whose critical stage lies inside the
+// section is solved whole: the scan of specific energy and the probe
+// either side of the critical stage stop at the section's top instead of
+// asking for a stage above its ends. A rectangle b = 10 m wide between
+// vertical walls 10 m high: y_c = (q²/(g·b²))^(1/3) and E_min = 1.5·y_c
+// at y_c (closed form, Chow 1959, section 3-2 and eq. 3-11). The
+// discharges are 846 m³/s (y_c = 9.0037 m) and those of y_c = 9.98 m,
+// inside the last step of the scan below the top, and y_c = 9.9995 m,
+// closer to the top than the probe; q = b·√(g·y_c³) from the same closed
+// form. A critical stage above the top stays an error.
+func TestNoExtendEnergyScanStopsAtTop(t *testing.T) {
+	const b, g = 10.0, 9.80665
+	rect, err := subdivide.Compile(subdivide.Section{Points: subdivide.XZ(0, 10, 0, 0, b, 0, b, 10), N: []float64{0.03, 0.03, 0.03}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	opt := Options{Slope: 0.05, Geometry: subdivide.Options{NoExtend: true}}
+	discharge := func(yc float64) float64 { return b * math.Sqrt(g*yc*yc*yc) }
+	for _, q := range []float64{846, discharge(9.98), discharge(9.9995)} {
+		yc := math.Cbrt(q * q / (g * b * b))
+		t.Run(fmt.Sprintf("y_c %.4f m", yc), func(t *testing.T) {
+			sol, err := Solve(rect, q, opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if len(sol.Critical) != 1 || !closeDepth(sol.Critical[0].Stage, yc, 0) || sol.Critical[0].Extremum != EnergyMinimum || !sol.Critical[0].Least {
+				t.Fatalf("critical stages %+v, want one at %.6f m, the least energy", sol.Critical, yc)
+			}
+			const closeEnergy = 1e-9 // relative
+			if math.Abs(sol.MinEnergy.Energy/(1.5*yc)-1) > closeEnergy || !closeDepth(sol.MinEnergy.Stage, yc, 0) {
+				t.Errorf("least specific energy %+v, want 1.5·y_c = %.6f m at %.6f m", sol.MinEnergy, 1.5*yc, yc)
+			}
+			if len(sol.EnergyMinima) != 1 || math.Abs(sol.EnergyMinima[0].Energy/(1.5*yc)-1) > closeEnergy {
+				t.Errorf("local minima %+v, want one, 1.5·y_c = %.6f m", sol.EnergyMinima, 1.5*yc)
+			}
+			e, err := MinSpecificEnergy(rect, q, opt)
+			if err != nil || math.Abs(e.Energy/(1.5*yc)-1) > closeEnergy {
+				t.Errorf("MinSpecificEnergy %+v, %v; want 1.5·y_c = %.6f m", e, err, 1.5*yc)
+			}
+		})
+	}
+	if _, err := Solve(rect, discharge(10.5), opt); !errors.Is(err, ErrNoRoot) {
+		t.Errorf("critical stage 10.5 m above the top: %v, want ErrNoRoot", err)
+	}
+}

@@ -230,18 +230,19 @@ func (sol *Solution) solveCritical(g subdivide.Geometry, s *solver, opt Options)
 
 // energyExtremum tells whether the specific energy e of q at critical
 // root c is a local minimum, a local maximum or neither, against the
-// energy ExtremumProbe of the depth below and above.
+// energy ExtremumProbe of the depth below and above (above at most at the
+// top, where the geometry refuses a stage above it).
 func energyExtremum(s *solver, c Root, e, q float64) (string, error) {
 	d := ExtremumProbe * c.Depth
 	below, err := s.energy(c.Stage-d, q)
 	if err != nil {
 		return "", err
 	}
-	up := c.Stage + d
-	if closed, err := s.closed(); err != nil {
+	// No stage above a conduit's crown, nor above an end of a survey with
+	// Options.NoExtend: the probe stops at the top.
+	up, err := s.ceiling(c.Stage + d)
+	if err != nil {
 		return "", err
-	} else if closed {
-		up = math.Min(up, s.g.Top()) // no stage above the crown
 	}
 	above, err := s.energy(up, q)
 	if err != nil {

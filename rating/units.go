@@ -89,7 +89,9 @@ func (u Units) Stress() string {
 	return "Pa"
 }
 
-// FeetPerMetre is the exact length of the international foot.
+// FeetPerMetre is the number of international feet in a metre, 1/0.3048
+// (the international foot is 0.3048 m exactly, by the international yard
+// and pound agreement of 1959), to the rounding of float64.
 const FeetPerMetre = 1 / 0.3048
 
 // MaxDischarge bounds a discharge given or read, in either unit system:

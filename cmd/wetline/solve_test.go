@@ -209,3 +209,25 @@ func TestSolveWithoutN(t *testing.T) {
 		}
 	}
 }
+
+// With --no-extend a discharge whose normal and critical stages both lie
+// inside the section is solved, not refused for a stage the search of
+// specific energy would have looked at above the walls. The section is a
+// rectangle 10 m wide between vertical walls 10 m high, n 0.03, carrying
+// 846 m³/s at slope 0.05: critical depth y_c = (q²/g)^(1/3) with
+// q = 84.6 m²/s is 9.0034 m and E_min = 1.5·y_c = 13.5051 m (Chow 1959,
+// section 3-2); the normal depth 5.8574 m solves Manning's equation
+// (1/n)·A·R^(2/3)·√S = Q with A = 10·y, R = 10·y/(10 + 2·y) (Chow 1959,
+// section 6-4), by bisection in a short independent script.
+func TestSolveNoExtendInsideTheWalls(t *testing.T) {
+	t.Parallel()
+	out, errs, code := runCLI(t, "solve", filepath.Join("testdata", "solve-walls-10m.csv"), "--discharge", "846", "--slope", "0.05", "--no-extend")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	for _, want := range []string{"normal stage 5.8574 m", "critical stage 9.0034 m", "least specific energy 13.5051 m at stage 9.0034 m"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output %q lacks %q", out, want)
+		}
+	}
+}

@@ -66,7 +66,9 @@ type FitOptions struct {
 	// len(Breaks)+1 when Breaks are given).
 	Segments int
 	// Breaks, when given, are the breakpoints (gauge height), ascending,
-	// one fewer than Segments; nil fits them.
+	// one fewer than Segments; nil fits them. A gauging on a breakpoint
+	// belongs to the segment above it, as one on a control's breakpoint
+	// belongs to the control above (ControlOptions.Breaks).
 	Breaks []float64
 	// ZeroFlowFixed holds e at ZeroFlow instead of fitting it.
 	ZeroFlowFixed bool
@@ -211,7 +213,8 @@ type fitProblem struct {
 //
 // Preconditions: opt.Segments is 0 (one segment, or len(opt.Breaks)+1) or
 // 1 to MaxSegments; given breakpoints ascend, one fewer than the
-// segments, each segment holding MinPerSegment gaugings.
+// segments, each segment holding MinPerSegment gaugings (a gauging on a
+// breakpoint counted once, in the segment above it).
 //
 // Errors: ErrSegments for a bad number of segments or bad breakpoints;
 // an error naming each gauging with a non-finite stage or discharge or a
@@ -349,10 +352,13 @@ func (p *fitProblem) admissible(f *Fit) error {
 		return fmt.Errorf("%w: all gaugings are at stage %g", ErrFewGaugings, p.lo)
 	}
 	f.LowStage, f.HighStage = p.lo, p.hi
-	for _, b := range p.opt.Breaks {
-		if !(b > p.lo && b < p.hi) || p.count(b) < MinPerSegment {
+	prev := p.lo
+	for i, b := range p.opt.Breaks {
+		last := i == len(p.opt.Breaks)-1
+		if !(b > p.lo && b < p.hi) || p.countBetween(prev, b) < MinPerSegment || (last && p.count(b) < MinPerSegment) {
 			return fmt.Errorf("%w: breakpoint %g leaves a segment with fewer than %d of the gaugings (%g to %g)", ErrSegments, b, MinPerSegment, p.lo, p.hi)
 		}
+		prev = b
 	}
 	return nil
 }
@@ -400,9 +406,10 @@ func (p *fitProblem) nParams() int {
 	return n
 }
 
-// count returns the number of gaugings above stage b.
+// count returns the number of gaugings at or above stage b: those of the
+// segment above breakpoint b, a gauging on it included (see countBetween).
 func (p *fitProblem) count(b float64) int {
-	return len(p.h) - sort.SearchFloat64s(p.h, b+math.SmallestNonzeroFloat64)
+	return len(p.h) - sort.SearchFloat64s(p.h, b)
 }
 
 // linear solves the weighted least-squares problem in ln Q for a given e
@@ -417,7 +424,7 @@ func (p *fitProblem) linear(e float64, breaks []float64) ([]float64, float64) {
 	kappa := make([]float64, len(breaks))
 	for j, b := range breaks {
 		// Each segment must hold MinPerSegment gaugings.
-		if !(b > prev) || p.countBetween(prev, b, j == 0) < MinPerSegment {
+		if !(b > prev) || p.countBetween(prev, b) < MinPerSegment {
 			return nil, math.Inf(1)
 		}
 		prev = b
@@ -452,15 +459,13 @@ func (p *fitProblem) linear(e float64, breaks []float64) ([]float64, float64) {
 	return beta.RawVector().Data, ssr
 }
 
-// countBetween counts gaugings with lo < h ≤ hi (lo ≤ h ≤ hi when first).
-func (p *fitProblem) countBetween(lo, hi float64, first bool) int {
-	c := 0
-	for _, h := range p.h {
-		if (h > lo || (first && h == lo)) && h <= hi {
-			c++
-		}
-	}
-	return c
+// countBetween counts the gaugings with lo ≤ h < hi: those of the
+// segment from lo (the lowest gauging, or the breakpoint below) up to
+// breakpoint hi. A gauging on a breakpoint belongs to the segment above
+// it, as one on a control's breakpoint belongs to the control above
+// (controlSpan), and is counted once.
+func (p *fitProblem) countBetween(lo, hi float64) int {
+	return sort.SearchFloat64s(p.h, hi) - sort.SearchFloat64s(p.h, lo)
 }
 
 // solve finds e and the breakpoints, then β; theta is laid out as in Fit.

@@ -290,3 +290,30 @@ func TestFitBadGaugings(t *testing.T) {
 		t.Errorf("four segments: err = %v", err)
 	}
 }
+
+// A gauging exactly on a breakpoint belongs to the segment above it, as a
+// gauging on a control's breakpoint belongs to the control above
+// (ControlOptions): it is counted once, so a given breakpoint that leaves
+// a segment fewer than MinPerSegment gaugings is refused by the power-law
+// fit exactly when least squares of controls refuses it. Gaugings at
+// eight stages 0.5 to 2.0 m, each of MinPerSegment = 3: a break at 0.9
+// leaves 0.5 and 0.7 below it, one at 1.7 leaves 1.7 and 2.0 above it;
+// breaks at 1.1 (0.5–0.9 below) and 1.5 (1.5–2.0 above) are accepted. The
+// discharges follow one power law (invented; only the counts are checked).
+func TestGaugingOnBreakpointCountsAbove(t *testing.T) {
+	stages := []float64{0.5, 0.7, 0.9, 1.1, 1.3, 1.5, 1.7, 2.0}
+	gs := law(0.2, 4, []float64{1.8}, nil, stages, rating.Good)
+	for _, tc := range []struct {
+		brk float64
+		ok  bool
+	}{{0.9, false}, {1.1, true}, {1.5, true}, {1.7, false}} {
+		_, err := gauged.FitPowerLaw(gs, gauged.FitOptions{Breaks: []float64{tc.brk}})
+		if got := !errors.Is(err, gauged.ErrSegments); got != tc.ok {
+			t.Errorf("power law, break at %g: %v; want accepted %v", tc.brk, err, tc.ok)
+		}
+		_, err = gauged.FitControls(gs, gauged.ControlOptions{Breaks: []float64{tc.brk}})
+		if got := !errors.Is(err, gauged.ErrThinControl); got != tc.ok {
+			t.Errorf("controls, break at %g: %v; want accepted %v", tc.brk, err, tc.ok)
+		}
+	}
+}

@@ -241,15 +241,35 @@ const crestDecades = 3.0
 const crestBisect = 200
 
 // crestDischarge returns the discharge whose upstream stage head(Q) is h,
-// by bracketing and bisection in ln Q.
+// by bracketing and bisection in ln Q. A discharge the crest section
+// refuses (its critical stage above the section's top, which it does not
+// extend: rating.ErrNoRoot or subdivide.ErrAboveEnds) counts as above h,
+// since head rises with Q, so the steps of the bracketing cannot
+// overshoot into it; when the bracket's upper end is a discharge the
+// section refused, h is not reached below the section's top, and that
+// refusal is returned, wrapped.
 func crestDischarge(head func(float64) (float64, error), h float64) (float64, error) {
+	// reach tells whether the head of e^lnQ reaches h, or the section
+	// refuses it (refused, the error).
+	reach := func(lnQ float64) (ok bool, refused, err error) {
+		v, err := head(math.Exp(lnQ))
+		switch {
+		case errors.Is(err, rating.ErrNoRoot) || errors.Is(err, subdivide.ErrAboveEnds):
+			return true, err, nil
+		case err != nil:
+			return false, nil, err
+		}
+		return v >= h, nil, nil
+	}
 	lo, hi := 0.0, 0.0
+	var hiRefused error
 	for i := 0; ; i++ {
-		v, err := head(math.Exp(hi))
+		ok, refused, err := reach(hi)
 		if err != nil {
 			return 0, err
 		}
-		if v >= h {
+		if ok {
+			hiRefused = refused
 			break
 		}
 		if i == crestBisect {
@@ -259,29 +279,32 @@ func crestDischarge(head func(float64) (float64, error), h float64) (float64, er
 	}
 	lo = hi - 2
 	for i := 0; ; i++ {
-		v, err := head(math.Exp(lo))
+		ok, refused, err := reach(lo)
 		if err != nil {
 			return 0, err
 		}
-		if v < h {
+		if !ok {
 			break
 		}
 		if i == crestBisect {
 			return 0, errorf("%w: stage %g is at the crest", ErrPrior, h)
 		}
-		hi, lo = lo, lo-2
+		hi, hiRefused, lo = lo, refused, lo-2
 	}
 	for i := 0; i < crestBisect && hi-lo > bisectLogTol; i++ {
 		mid := 0.5 * (lo + hi)
-		v, err := head(math.Exp(mid))
+		ok, refused, err := reach(mid)
 		if err != nil {
 			return 0, err
 		}
-		if v < h {
-			lo = mid
+		if ok {
+			hi, hiRefused = mid, refused
 		} else {
-			hi = mid
+			lo = mid
 		}
+	}
+	if hiRefused != nil {
+		return 0, errorf("stage %g over the crest needs a critical depth above the crest section's top: %w", h, hiRefused)
 	}
 	return math.Exp(0.5 * (lo + hi)), nil
 }

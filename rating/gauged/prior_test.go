@@ -1,6 +1,7 @@
 package gauged_test
 
 import (
+	"errors"
 	"math"
 	"math/rand/v2"
 	"testing"
@@ -81,6 +82,35 @@ func TestCrestPriorRectangle(t *testing.T) {
 	}
 	if math.Abs(p.LogCoefficient.SD-math.Sqrt(math.Log1p(gauged.DefaultCrestCV*gauged.DefaultCrestCV))) > 1e-15 {
 		t.Errorf("sd %g", p.LogCoefficient.SD)
+	}
+}
+
+// With Options.NoExtend the crest section holds no stage above its ends,
+// yet the upstream stage h = z + E_min may stand above them: only the
+// critical depth y_c = (2/3)·E_min must lie inside (closed form for a
+// rectangle, Chow, 1959, section 3-2). The rectangle 6 m wide and 3 m
+// high, its lowest point at gauge height 0.25: up to gauge height 3.4
+// (y_c = 2.1 m) and 4.3 (y_c = 2.7 m) the prior is that of
+// TestCrestPriorRectangle; at 5.0 (y_c = 3.17 m, above the walls) it
+// is an error of the section.
+func TestCrestPriorNoExtend(t *testing.T) {
+	const w = 6.0
+	wantA := w * math.Sqrt(rating.SI.Gravity()) * math.Pow(2.0/3, 1.5)
+	crest := built(t, "rectangle:width=6,height=3", 0.03, 0.001)
+	crest.Datum = -0.25
+	crest.Options.Geometry = subdivide.Options{NoExtend: true}
+	for _, to := range []float64{3.4, 4.3} {
+		p, err := gauged.CrestPrior(crest, 0.25, to, 0)
+		if err != nil {
+			t.Errorf("to %g: %v", to, err)
+			continue
+		}
+		if relErr(math.Exp(p.LogCoefficient.Mean), wantA) > 1e-5 || math.Abs(p.Exponent.Mean-1.5) > 1e-5 {
+			t.Errorf("to %g: crest prior a %.6g (want %.6g), c %.6g (want 1.5)", to, math.Exp(p.LogCoefficient.Mean), wantA, p.Exponent.Mean)
+		}
+	}
+	if _, err := gauged.CrestPrior(crest, 0.25, 5.0, 0); !errors.Is(err, rating.ErrNoRoot) {
+		t.Errorf("to 5.0, critical depth above the walls: %v, want rating.ErrNoRoot", err)
 	}
 }
 
