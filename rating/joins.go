@@ -116,9 +116,16 @@ func stepPercent(r float64) string {
 	return fmt.Sprintf("%+.0f %%", 100*r)
 }
 
-// joinWarnings words the warnings of the joins that lie within a table
-// whose rows span stages lo to hi: a join at a stage s with lo ≤ s < hi.
-func joinWarnings(g subdivide.Geometry, opt Options, lo, hi float64) []string {
+// JoinWarning is PocketJoinWarning with the stage as an elevation, the
+// form a Table's warnings take.
+func JoinWarning(j PocketJoin, u Units) string {
+	return PocketJoinWarning(j, PlainFigures(j.Stage, 7)+" "+u.Length(), u)
+}
+
+// tableJoins returns the joins that lie within a table whose rows span
+// stages lo to hi: those at a stage s with lo ≤ s < hi, where the rows on
+// either side of s span its step.
+func tableJoins(g subdivide.Geometry, opt Options, lo, hi float64) []PocketJoin {
 	if !(hi > lo) {
 		return nil
 	}
@@ -126,10 +133,10 @@ func joinWarnings(g subdivide.Geometry, opt Options, lo, hi float64) []string {
 	if err != nil {
 		return nil
 	}
-	var out []string
+	var out []PocketJoin
 	for _, j := range joins {
 		if j.Stage >= lo && j.Stage < hi {
-			out = append(out, PocketJoinWarning(j, PlainFigures(j.Stage, 7)+" "+opt.Units.Length(), opt.Units))
+			out = append(out, j)
 		}
 	}
 	return out

@@ -46,6 +46,10 @@ type Table struct {
 	Rows []Row
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
+	// Joins are the stages within the table's range at which pockets join
+	// the flow and the rating steps (see PocketJoins); each has its
+	// warning (JoinWarning).
+	Joins []PocketJoin
 	// Kind names what the table is when its source says so (a fitted
 	// rating, KindBackwater), for labels; "" when unknown.
 	Kind string
@@ -234,7 +238,10 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
-	t.Warnings = append(t.Warnings, joinWarnings(g, opt, minStage, maxStage)...)
+	t.Joins = tableJoins(g, opt, minStage, maxStage)
+	for _, j := range t.Joins {
+		t.Warnings = append(t.Warnings, JoinWarning(j, opt.Units))
+	}
 	if w := AlternatingChannelWarning(t.Subsections, groundPoints(g)); w != "" && opt.Composite == Split {
 		t.Warnings = append(t.Warnings, w)
 	}
