@@ -116,6 +116,13 @@ func stepPercent(r float64) string {
 	return fmt.Sprintf("%+.0f %%", 100*r)
 }
 
+// GaugeHeightWords words an elevation z as a gauge height on a gauge whose
+// zero lies at datum, with the elevation: "gauge height 3.6 m (elevation
+// 103.6 m)".
+func GaugeHeightWords(z, datum float64, u Units) string {
+	return fmt.Sprintf("gauge height %s %s (elevation %s %s)", PlainFigures(DecimalDifference(z, datum), 7), u.Length(), PlainFigures(z, 7), u.Length())
+}
+
 // JoinWarning is PocketJoinWarning with the stage as an elevation, the
 // form a Table's warnings take.
 func JoinWarning(j PocketJoin, u Units) string {

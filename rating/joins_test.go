@@ -91,6 +91,32 @@ func TestPocketJoins(t *testing.T) {
 	}
 }
 
+// Rated at gauge heights, the table words the join at the crest's gauge
+// height, the surveyed crest less the datum.
+func TestPocketJoinGaugeHeights(t *testing.T) {
+	p, err := subdivide.Compile(subdivide.Section{
+		Points: []subdivide.Point{{Station: 0, Elevation: 105}, {Station: 10, Elevation: 100}, {Station: 20, Elevation: 103.6},
+			{Station: 25, Elevation: 101}, {Station: 30, Elevation: 101}, {Station: 35, Elevation: 105}},
+		N: []float64{0.035, 0.035, 0.035, 0.035, 0.035},
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := rating.Rate(p, []float64{3.5, 3.6, 3.7}, rating.RateOptions{Options: rating.Options{Slope: 0.001}, GaugeHeights: true, Datum: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, w := range rep.Warnings {
+		if strings.Contains(w, "joins the flow") {
+			got = append(got, w)
+		}
+	}
+	if len(got) != 1 || !strings.HasPrefix(got[0], "at gauge height 3.6 m (elevation 103.6 m) ") {
+		t.Errorf("join warnings %q, want one at gauge height 3.6 m", got)
+	}
+}
+
 func within(a, b, tol float64) bool {
 	return math.Abs(a-b) <= tol*math.Max(math.Abs(a), math.Abs(b))
 }

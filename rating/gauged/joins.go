@@ -43,8 +43,8 @@ func (r *Report) joinWarnings() []string {
 	var out []string
 	for _, j := range r.joins {
 		h := rating.DecimalDifference(j.Stage, c.Datum)
-		msg := sayf("at gauge height %s %s (elevation %s %s) %s joins the flow as the crest is overtopped: the section's hydraulic discharge steps from %s %s at the crest to %s %s just above it (%s)",
-			gh(h), u.Length(), rating.PlainFigures(j.Stage, 7), u.Length(), j.JoinWhere(u),
+		msg := sayf("at %s %s joins the flow as the crest is overtopped: the section's hydraulic discharge steps from %s %s at the crest to %s %s just above it (%s)",
+			rating.GaugeHeightWords(j.Stage, c.Datum, u), j.JoinWhere(u),
 			rating.PlainFigures(j.Before.Discharge, 4), Q, rating.PlainFigures(j.After.Discharge, 4), Q, joinStep(j))
 		if r.Fit != nil && r.Table != nil && r.tableSpans(h) {
 			msg += r.joinFit(j, h)
