@@ -16,9 +16,10 @@ type Join struct {
 	// next ground higher than it on the far side, or to the end of the
 	// section when there is none.
 	Crest, From, To float64
-	// Above is the lowest stage above Stage (to the last bit of a
-	// float64) at which At counts the pocket: the wetted geometry there is
-	// the limit from above at the crest.
+	// Above is a stage just above Stage, the first at which At counts
+	// the pocket (the next float64 up, or a few bits above where the
+	// section's elevations are large): the wetted geometry there is the
+	// limit from above at the crest.
 	Above float64
 }
 
@@ -89,13 +90,22 @@ func (p *Profile) findJoins(pts []Point) []Join {
 	return out
 }
 
-// above returns the lowest stage above z, the elevation of point k, whose
+// above returns a stage just above z, the elevation of point k, whose
 // shifted value lies above the point's shifted elevation: the first stage
-// at which At takes the point as wet.
+// at which At takes the point as wet, to the rounding of the shift (the
+// next float64 above z when the shift is exact).
 func (p *Profile) above(k int, z float64) float64 {
 	s := math.Nextafter(z, math.Inf(1))
-	for !(s-p.z0 > p.zs[k]) {
-		s = math.Nextafter(s, math.Inf(1))
+	// Where the shift rounds coarser than z's last bit, step by growing
+	// multiples of the coarser bit instead of bit by bit.
+	step := math.Max(math.Abs(z), math.Abs(p.z0)) * 0x1p-52
+	for i := 0; !(s-p.z0 > p.zs[k]); i++ {
+		if i < 4 {
+			s = math.Nextafter(s, math.Inf(1))
+			continue
+		}
+		s += step
+		step *= 2
 	}
 	return s
 }

@@ -81,3 +81,20 @@ func TestJoins(t *testing.T) {
 		})
 	}
 }
+
+// A crest far from the section's lowest point in magnitude (a shift that
+// rounds coarser than the crest's own last bit) still gives a stage just
+// above it at which the pocket counts, found without stepping bit by bit.
+func TestJoinAboveCoarseShift(t *testing.T) {
+	p := mustCompile(t, Section{Points: []Point{{0, 5e-300}, {10, -1e10}, {20, 1e-300}, {25, -1}, {30, 5e-300}}})
+	js := p.Joins()
+	if len(js) != 1 || js[0].Stage != 1e-300 {
+		t.Fatalf("joins %+v, want one at the crest 1e-300", js)
+	}
+	j := js[0]
+	at, _ := p.At(j.Stage, Options{})
+	up, _ := p.At(j.Above, Options{})
+	if !(j.Above > j.Stage) || !(j.Above < 1e-4) || !(up.Area > at.Area) {
+		t.Errorf("above %v: area %v at the crest, %v above", j.Above, at.Area, up.Area)
+	}
+}
