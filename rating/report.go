@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"wetline/subdivide"
@@ -186,6 +187,11 @@ func (opt RateOptions) compute(g subdivide.Geometry, stages []float64) (Table, e
 	t.Top = DecimalDifference(t.Top, opt.Datum)
 	for i := range t.Rows {
 		t.Rows[i].Stage = stages[i]
+	}
+	for _, j := range t.Joins { // worded at the table's gauge heights
+		if k := slices.Index(t.Warnings, JoinWarning(j, opt.Units)); k >= 0 {
+			t.Warnings[k] = PocketJoinWarning(j, GaugeHeightWords(j.Stage, opt.Datum, opt.Units), opt.Units)
+		}
 	}
 	return t, err
 }

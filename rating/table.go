@@ -46,6 +46,10 @@ type Table struct {
 	Rows []Row
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
+	// Joins are the stages within the table's range at which pockets join
+	// the flow and the rating steps (see PocketJoins); each has its
+	// warning (JoinWarning).
+	Joins []PocketJoin
 	// Kind names what the table is when its source says so (a fitted
 	// rating, KindBackwater), for labels; "" when unknown.
 	Kind string
@@ -157,7 +161,10 @@ func finiteAll(v ...float64) bool {
 // opt.Units), with opt.Composite merging the n of each region first.
 // Stages may come in any order; rows keep that order. A stage below the
 // lowest ground gives a dry row; a stage above an end extends the section
-// with a vertical wall, counted in the table's warnings. A vertical wall
+// with a vertical wall, counted in the table's warnings. Where water
+// standing behind higher ground joins the flow between the table's lowest
+// and highest stage, the rating steps, and the warnings say where and by
+// how much (PocketJoins). A vertical wall
 // of the survey with its own n conveys with the subsection it faces
 // (FoldWalls), which the warnings say (FoldedWallWarnings).
 //
@@ -189,9 +196,9 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	if !(opt.Slope > 0) || math.IsInf(opt.Slope, 0) {
 		return t, fmt.Errorf("slope %v: %w", opt.Slope, ErrSlope)
 	}
-	var maxL, maxR, maxStage, ponded float64
+	var maxL, maxR, maxStage, minStage, ponded float64
 	pools, pondedStages := 0, 0
-	maxStage = math.Inf(-1)
+	maxStage, minStage = math.Inf(-1), math.Inf(1)
 	add := func(r Row) {
 		maxL = math.Max(maxL, r.ExtendedLeft)
 		maxR = math.Max(maxR, r.ExtendedRight)
@@ -201,6 +208,7 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 			ponded = math.Max(ponded, r.PondedArea)
 		}
 		maxStage = math.Max(maxStage, r.Stage)
+		minStage = math.Min(minStage, r.Stage)
 	}
 	if p, ok := g.(*subdivide.Profile); ok {
 		rows, err := sweepRows(p, stages, opt, t.Bottom)
@@ -230,6 +238,10 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	}
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
+	t.Joins = tableJoins(g, opt, minStage, maxStage)
+	for _, j := range t.Joins {
+		t.Warnings = append(t.Warnings, JoinWarning(j, opt.Units))
+	}
 	if w := AlternatingChannelWarning(t.Subsections, groundPoints(g)); w != "" && opt.Composite == Split {
 		t.Warnings = append(t.Warnings, w)
 	}

@@ -23,6 +23,15 @@ const rowTol = 1e-9
 // stage by stage with At, the reference engine.
 type clipOnly struct{ subdivide.Geometry }
 
+// Joins passes on the ground line's joins, which Compute warns of
+// whichever engine rates the stages.
+func (c clipOnly) Joins() []subdivide.Join {
+	if p, ok := c.Geometry.(*subdivide.Profile); ok {
+		return p.Joins()
+	}
+	return nil
+}
+
 func near(a, b float64) bool {
 	if math.IsNaN(a) || math.IsNaN(b) {
 		return math.IsNaN(a) && math.IsNaN(b)

@@ -92,6 +92,8 @@ type Profile struct {
 	// pockets reports a ground line on which water can stand apart from
 	// the main channel (see Sweep).
 	pockets bool
+	// joins are the stages at which pockets join the main channel's reach.
+	joins []Join
 }
 
 // Compile validates a section, inserts points at the bank stations and
@@ -174,6 +176,7 @@ func Compile(s Section) (*Profile, error) {
 	// Water can be left out where the ground holds separate pools, or
 	// where ground outside the channel is lower than the channel's bed.
 	p.pockets = hasPockets(p.zs) || p.zs[p.chanLow] > 0
+	p.joins = p.findJoins(pts)
 	return p, nil
 }
 

@@ -163,6 +163,9 @@ type bayesProblem struct {
 	priors  []prior // one per parameter of the full vector
 	opt     BayesOptions
 	sources []string // per control, where its prior came from
+	// spans are, per control, where its prior was fitted to the section's
+	// hydraulic rating (ok false: not from it).
+	spans []priorSpan
 	// informative reports, per control, priors of ln A and C from the
 	// survey or given (not the weak defaults).
 	informative []bool
@@ -471,6 +474,7 @@ func (b *bayesProblem) resolvePriors(est []float64) error {
 	m := b.m
 	b.priors = make([]prior, m.fullLen())
 	b.sources = make([]string, m.k())
+	b.spans = make([]priorSpan, m.k())
 	b.informative = make([]bool, m.k())
 	if err := b.breakPriors(); err != nil {
 		return err
@@ -622,6 +626,9 @@ func (b *bayesProblem) controlPriors(est []float64) {
 		}
 		b.priors[m.iLnA(j)], b.priors[m.iC(j)] = fromParam(lnA), fromParam(c)
 		b.sources[j] = src
+		if o.FlatPriors || gp.LogCoefficient.given() && gp.Exponent.given() {
+			b.spans[j] = priorSpan{} // nothing of the survey's prior is kept
+		}
 		b.informative[j] = (derived.Source != "" || gp.LogCoefficient.given()) && !o.FlatPriors
 	}
 }
@@ -689,6 +696,7 @@ func (b *bayesProblem) derivedPrior(j int, from, to, guess float64) (ControlPrio
 		if err != nil {
 			return weak, weakSrc, err
 		}
+		b.spans[j] = priorSpan{from: from, to: to, part: ho.Part, ok: true}
 		return cp, cp.Source, nil
 	case m.kinds[j] == ChannelControl && o.HydraulicTable != nil:
 		if j > 0 && m.joints[j] == Add {

@@ -55,6 +55,9 @@ type Posterior struct {
 	prior       Rating // the rating of the prior means (see ControlFit.PriorRating)
 	hasPrior    bool
 	informative []bool // per control, priors of ln A and C from the survey or given
+	// spans are, per control, where its prior was fitted to the section's
+	// hydraulic rating (see priorSpan).
+	spans []priorSpan
 
 	dim   int
 	draws []chainResult
@@ -81,6 +84,7 @@ func (b *bayesProblem) posterior(res []chainResult, modes []mode) *Posterior {
 	p.Likelihood = b.likelihoodText()
 	p.PriorSources = append([]string(nil), b.sources...)
 	p.informative = append([]bool(nil), b.informative...)
+	p.spans = append([]priorSpan(nil), b.spans...)
 	p.prior, p.hasPrior = b.priorRating()
 	for _, c := range res {
 		p.ChainAcceptance = append(p.ChainAcceptance, c.acceptance)

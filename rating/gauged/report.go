@@ -170,6 +170,8 @@ type Report struct {
 	Provenance rating.Provenance
 	// Figures are the report's pictures (none until drawn).
 	Figures []rating.Figure
+
+	joins []rating.PocketJoin // where the hydraulic rating steps (see joinWarnings)
 }
 
 // UncertaintyConvention states, for every report, how a gauging's
@@ -270,6 +272,7 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 		return nil, err
 	}
 	if opt.CompareOnly {
+		r.Warnings = append(r.Warnings, r.joinWarnings()...)
 		return r, nil
 	}
 	co := opt.Controls
@@ -322,6 +325,7 @@ func Analyze(gs []Gauging, opt Options) (*Report, error) {
 	r.Table = &t
 	r.Warnings = append(r.Warnings, t.Warnings...)
 	r.Warnings = append(r.Warnings, r.floodplainWarnings()...)
+	r.Warnings = append(r.Warnings, r.joinWarnings()...)
 	if opt.Lookup {
 		r.Lookup, err = LookupControlRows(&t)
 		if errors.Is(err, rating.ErrLookupRange) {
@@ -523,7 +527,8 @@ func (r *Report) curve(c *rating.HydraulicCurve) error {
 	if err != nil {
 		return err
 	}
-	r.Warnings = append(r.Warnings, t.Warnings...)
+	r.Warnings = append(r.Warnings, dropJoinWarnings(t, c.Options.Units)...)
+	r.joins = t.Joins
 	var ct rating.Table
 	if r.Calibration != nil {
 		sc := rating.ScaledN{Geometry: c.Geometry, Factor: r.Calibration.Factor, ChannelOnly: r.Calibration.ChannelOnly}
