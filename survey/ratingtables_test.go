@@ -191,7 +191,7 @@ func TestParseRatingTablesLongFormat(t *testing.T) {
 	const long = "valid_from,stage,discharge\n" +
 		"2023-01-01T00:00Z,0.5,0\n2023-01-01T00:00Z,1.0,2\n2023-01-01T10:00+10:00,2.0,9\n" +
 		"2024-06-01T00:00+10:00,0.6,0\n2024-05-31T14:00Z,1.2,3\n"
-	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4})
+	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.6})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,7 +201,7 @@ func TestParseRatingTablesLongFormat(t *testing.T) {
 		t.Errorf("periods %+v", rs.Periods)
 	}
 	const back = "valid_from,stage,discharge\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n2024-01-01,0.5,0\n2024-01-01,1.0,2\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n"
-	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4}); !errors.Is(err, gauged.ErrPeriodOrder) ||
+	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.5}); !errors.Is(err, gauged.ErrPeriodOrder) ||
 		!strings.Contains(err.Error(), "r.csv:6:1") {
 		t.Errorf("a period come back: %v", err)
 	}
@@ -287,7 +287,7 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 		{"at the dry foot", table, RatingTableOptions{Datum: 100}, true, 0, "",
 			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's last dry row at its foot (--zero-flow not given): the table is read log-linearly in (h − e) between rows"},
 		{"at the dry foot, flag named", table, RatingTableOptions{Datum: 100, ZeroFlowFlag: "--hydraulic-zero-flow"}, true, 0, "", "(--hydraulic-zero-flow not given)"},
-		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, "", ""},
+		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
 		{"no dry row", wet, RatingTableOptions{Datum: 100}, false, 0,
 			"hydraulic.csv: the table has no row without flow and --zero-flow is not given, so it is read linearly in stage between rows; give --zero-flow E", ""},
 		{"no dry row, given", wet, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
