@@ -435,6 +435,30 @@ func TestDryFootDepthWarnings(t *testing.T) {
 	}
 }
 
+// A row without flow above a given gauge height of zero flow contradicts
+// it: refused by the readers for discharge, as a row with flow at or
+// below it is; warned of by the figure's reader.
+func TestDryRowAboveGivenZeroFlow(t *testing.T) {
+	const table = "stage,discharge\n0.25,0\n0.35,0.40\n0.55,2.9\n"
+	_, err := ParseRatingTables(strings.NewReader(table), "b.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.1})
+	if !errors.Is(err, gauged.ErrDryAboveZeroFlow) || !strings.Contains(err.Error(), "b.csv:2:1") {
+		t.Errorf("error %v, want %v at b.csv:2:1", err, gauged.ErrDryAboveZeroFlow)
+	}
+	for _, e := range []float64{0.25, 0.3} {
+		if _, err := ParseRatingTables(strings.NewReader(table), "b.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: e}); err != nil {
+			t.Errorf("e = %g at or above the dry row: %v", e, err)
+		}
+	}
+	ptab, err := ParseCSV(strings.NewReader(table), "b.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	rt, err := RatingFromTableGiven(ptab, UnitChoice{}, ZeroFlowGiven{Given: true, Value: 0.1})
+	if err != nil || len(rt.Warnings) != 1 || !strings.Contains(rt.Warnings[0], "b.csv:2: this row, at stage 0.25, has no flow, yet lies above the gauge height of zero flow 0.1 that --zero-flow gives") {
+		t.Errorf("warnings %q, %v", rt.Warnings, err)
+	}
+}
+
 // One rule reads every rating table: e from the zero flow given, else a
 // hydraulic rating written from a section (dry rows at its foot) is read
 // with its own gauge height of zero flow, the stage of its last dry row,

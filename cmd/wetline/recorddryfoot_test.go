@@ -72,3 +72,26 @@ func TestRecordReadsRatingFromDepth(t *testing.T) {
 		}
 	}
 }
+
+// A row without flow above the --zero-flow given contradicts it: compare
+// (as record, shifts and fit --hydraulic-zero-flow) refuses it, naming the
+// flag and the row, as it refuses a row with flow at or below e.
+func TestZeroFlowBelowDryRowRefused(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	a := filepath.Join(dir, "a.csv")
+	b := filepath.Join(dir, "b.csv")
+	if err := os.WriteFile(a, []byte("stage,discharge\n0.30,0\n0.40,0.45\n0.60,3.2\n1.00,12.5\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(b, []byte("stage,discharge\n0.25,0\n0.35,0.40\n0.55,2.9\n1.20,20.1\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, errs, code := runCLI(t, "compare", a, b, "--zero-flow", "0.3,0.1", "--step", "0.1")
+	if code != 1 || !strings.Contains(errs, "compare: --zero-flow 0.1: ") || !strings.Contains(errs, "b.csv:2:1: stage \"0.25\": a row without flow lies above the gauge height of zero flow") {
+		t.Errorf("exit %d: %s", code, errs)
+	}
+	if _, errs, code := runCLI(t, "compare", a, b, "--zero-flow", "0.3,0.25", "--step", "0.1"); code != 0 {
+		t.Errorf("e at the dry rows: exit %d: %s", code, errs)
+	}
+}
