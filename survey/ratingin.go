@@ -104,7 +104,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 // RatingFromTableGiven is RatingFromTable of a table read with a gauge
 // height of zero flow given (zero), as plot's --zero-flow gives one: a
 // column of the table naming a zero flow is warned of as
-// RatingTablesFromTable warns of it, not when it holds the value given.
+// RatingTablesFromTable warns of it, not when it holds the value given,
+// and so is the highest row without flow above the value given, which
+// contradicts it (the readers of ratings for discharge refuse the two
+// together: gauged.ErrDryAboveZeroFlow).
 func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
@@ -175,7 +178,32 @@ func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rati
 	if err := cells.errs.err(); err != nil {
 		return out, err
 	}
-	return finishRatingTable(t, out, rows)
+	out, err = finishRatingTable(t, out, rows)
+	if err == nil && zero.Given {
+		if w := dryAboveGiven(t, out.Rows, rows, zero); w != "" {
+			out.Warnings = append(out.Warnings, w)
+		}
+	}
+	return out, err
+}
+
+// dryAboveGiven words the warning of a table whose highest row without
+// flow lies above the gauge height of zero flow given (zero), "" when
+// none does (rows of t in rising stage, their rows' numbers in at).
+func dryAboveGiven(t *Table, rows []rating.Row, at []int, zero ZeroFlowGiven) string {
+	k := -1
+	for i, r := range rows {
+		if r.Discharge == 0 && r.Stage > zero.Value {
+			k = i
+		}
+	}
+	if k < 0 {
+		return ""
+	}
+	e := strconv.FormatFloat(zero.Value, 'g', -1, 64)
+	return fmt.Sprintf("%s: this row, at stage %s, has no flow, yet lies above the gauge height of zero flow %s that %s gives: the two disagree "+
+		"(shifts, record and compare refuse them together); give e at or above the table's last dry row, or leave %s out to take the table's own",
+		where(t, at[k]), strconv.FormatFloat(rows[k].Stage, 'g', -1, 64), e, zero.flag(), zero.flag())
 }
 
 // ratingColumns finds a rating table's stage and discharge columns and

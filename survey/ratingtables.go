@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"path/filepath"
 	"slices"
 	"strconv"
@@ -17,13 +18,32 @@ import (
 // Column names of a rating table read for the record. Only stage (or
 // gauge_height) and discharge are required; valid_from splits one table
 // into rating periods; extrapolated (as a rating fit's table writes it)
-// marks rows outside the gaugings. Other columns are ignored.
+// marks rows outside the gaugings; depth (as rate writes it) says where a
+// table's flow starts (DryFoot). Other columns are ignored.
 const (
 	ColRatingStage        = "stage"
 	ColRatingDischarge    = "discharge"
 	ColRatingValidFrom    = "valid_from"
 	ColRatingExtrapolated = "extrapolated"
+	// ColRatingDepth is the depth of each row, stage less the section's
+	// lowest point, as rate writes it: it says where a table's flow starts
+	// (see DryFoot).
+	ColRatingDepth = "depth"
 )
+
+// depth reads rec's cell of the depth column cd (-1: none): NaN when
+// blank or absent, a *ParseError for a bad cell or one beyond
+// ±MaxElevation.
+func (t *Table) depth(rec Record, cd int) (float64, *ParseError) {
+	if cd < 0 {
+		return math.NaN(), nil
+	}
+	v, ok, err := t.bounded(rec, cd, "depth", MaxElevation)
+	if !ok {
+		v = math.NaN()
+	}
+	return v, err
+}
 
 // RatingTableOptions configure the reading of rating tables. The zero
 // value reads a table of gauge heights with no zero-flow stage, no
@@ -32,12 +52,16 @@ type RatingTableOptions struct {
 	// Sheet is the workbook sheet to read ("" = the first).
 	Sheet string
 	// HasZeroFlow and ZeroFlow give the gauge height of zero flow e
-	// (length unit) of every rating read. Without them a rating whose
+	// (length unit) of every rating read; a row without flow above it is
+	// refused (gauged.ErrDryAboveZeroFlow), as a row with flow at or
+	// below it is (gauged.ErrZeroFlowAbove). Without them a rating whose
 	// first row has no flow takes its e from the table itself, as a
 	// hydraulic rating written from a section begins with its dry foot:
-	// the stage of the last of its leading rows without flow (see
-	// DryFoot), said in an input note (RatingTables.Notes); a rating with
-	// neither is read linearly in stage between rows, with a warning.
+	// the stage less the depth of its first row with flow where it has a
+	// depth column, else the stage of the last of its leading rows
+	// without flow (see DryFoot), said in an input note
+	// (RatingTables.Notes); a rating with neither is read linearly in
+	// stage between rows, with a warning.
 	HasZeroFlow bool
 	ZeroFlow    float64
 	// ZeroFlowFlag is the flag that gives the gauge height of zero flow,
@@ -157,8 +181,8 @@ func ParseRatingTables(r io.Reader, name string, opt RatingTableOptions) (Rating
 
 // stageDischargeColumns finds the stage (or gauge_height) and discharge
 // columns of a table of a rating, both required, and what their headers
-// say of its unit system (Table.HeaderUnits); units is that note, as far
-// as it was read, also when err is not nil.
+// and a depth column's say of its unit system (Table.HeaderUnits); units
+// is that note, as far as it was read, also when err is not nil.
 func (t *Table) stageDischargeColumns() (cs, cq int, units UnitNote, err error) {
 	if cs, err = t.Require(ColRatingStage, ColGaugeHeight); err != nil {
 		return cs, cq, units, err
@@ -166,7 +190,7 @@ func (t *Table) stageDischargeColumns() (cs, cq int, units UnitNote, err error) 
 	if cq, err = t.Require(ColRatingDischarge); err != nil {
 		return cs, cq, units, err
 	}
-	units, err = t.HeaderUnits(cs, cq)
+	units, err = t.HeaderUnits(cs, cq, t.Column(ColRatingDepth))
 	return cs, cq, units, err
 }
 
@@ -195,8 +219,8 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 	if err != nil {
 		return out, err
 	}
-	cv, cx := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated)
-	if err := t.unsavedIn(cs, cq, cv, cx); err != nil {
+	cv, cx, cd := t.Column(ColRatingValidFrom), t.Column(ColRatingExtrapolated), t.Column(ColRatingDepth)
+	if err := t.unsavedIn(cs, cq, cv, cx, cd); err != nil {
 		return out, err
 	}
 	out.Warnings = append(out.Warnings, zeroFlowWarnings(t, ZeroFlowGiven{Given: opt.HasZeroFlow, Value: opt.ZeroFlow, Flag: opt.ZeroFlowFlag})...)
@@ -228,9 +252,11 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		g := &groups[len(groups)-1]
 		h, errh := t.number(rec, cs, "stage", MaxElevation)
 		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
-		errs.add(errh, errq)
-		if errh == nil && errq == nil {
+		depth, errd := t.depth(rec, cd)
+		errs.add(errh, errq, errd)
+		if errh == nil && errq == nil && errd == nil {
 			g.points = append(g.points, gauged.RatingPoint{Stage: rating.DecimalDifference(h, opt.Datum), Discharge: q})
+			g.depths = append(g.depths, depth)
 			g.recs = append(g.recs, rec)
 			g.extrapolated = append(g.extrapolated, cx >= 0 && yesWord(t.Cell(rec, cx)))
 		}
@@ -266,6 +292,7 @@ type ratingGroup struct {
 	from         time.Time
 	fromRec      Record
 	points       []gauged.RatingPoint
+	depths       []float64 // NaN where blank or without a depth column
 	recs         []Record
 	extrapolated []bool
 }
@@ -308,13 +335,13 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 	if flag == "" {
 		flag = "--zero-flow"
 	}
-	if e, ok := DryFoot(g.points); ok && !rt.HasZeroFlow {
-		rt.HasZeroFlow, rt.ZeroFlow = true, e
-		k := 0
-		for k+1 < len(g.points) && g.points[k+1].Discharge == 0 {
-			k++
+	if f, ok := DryFoot(g.points, g.depths); ok && !rt.HasZeroFlow {
+		rt.HasZeroFlow, rt.ZeroFlow = true, f.E
+		at := func(i int) string { return where(t, g.recs[i].Row) }
+		*notes = append(*notes, f.Note(at, flag))
+		if w := f.Warning(at); w != "" {
+			*warn = append(*warn, w)
 		}
-		*notes = append(*notes, DryFootNote(where(t, g.recs[k].Row), e, flag))
 	}
 	switch {
 	case rt.HasZeroFlow:
@@ -328,50 +355,213 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 	return gauged.Period{From: g.from, Rating: rt}, nil
 }
 
-// DryFootNote is the input note of a rating table that takes its gauge
-// height of zero flow e from the last dry row at its foot (see DryFoot), at the
-// position at (the row), flag naming the flag not given that would give
-// e ("" when there is none).
-func DryFootNote(at string, e float64, flag string) string {
+// Foot is the gauge height of zero flow a rating table gives itself when
+// its first row has no flow (see DryFoot), and what it was read from.
+type Foot struct {
+	// E is the gauge height of zero flow (length unit).
+	E float64
+	// FromDepth reports that E is a row's stage less its depth; else E is
+	// the stage of the table's last dry row at its foot.
+	FromDepth bool
+
+	dry, wet           int     // the last leading row without flow; the first with flow (-1: none)
+	dryStage, wetStage float64 // their stages
+	depth              int     // the first row with flow and a depth (-1: none)
+	depthStage, depthD float64 // its stage and depth
+	depthE             float64 // its stage less its depth
+	doubt              footDoubt
+	other              int     // the row whose stage less depth disagrees with row depth's (footDepthsDisagree)
+	otherE             float64 // its stage less its depth
+	tolerance          float64 // the table's rounding of a stage less a depth (length unit)
+}
+
+// footDoubt is what a rating table's depth column says against the
+// gauge height of zero flow DryFoot reads from it.
+type footDoubt uint8
+
+const (
+	footAgrees footDoubt = iota
+	// footDepthsDisagree: two rows with flow give stages less depths
+	// apart by more than the table's rounding; the first row's is kept.
+	footDepthsDisagree
+	// footDepthBelowDry: stage less depth lies below the last dry row,
+	// which has no flow; e is that row's stage.
+	footDepthBelowDry
+	// footDepthAtFlow: stage less depth lies at or above the first row
+	// with flow; e is the last dry row's stage.
+	footDepthAtFlow
+)
+
+// maxFootDecimals bounds the decimals read in a stage or depth for the
+// table's rounding: more are float noise (a workbook's computed cell).
+const maxFootDecimals = 9
+
+// decimals is the number of decimals of v's shortest decimal form, at
+// most maxFootDecimals.
+func decimals(v float64) int {
+	_, frac, _ := strings.Cut(strconv.FormatFloat(math.Abs(v), 'f', -1, 64), ".")
+	return min(len(frac), maxFootDecimals)
+}
+
+// footTolerance is how far two stages less depths of a table written to d
+// decimals may lie apart: each of the four lengths is rounded by up to
+// half a unit of its last decimal, 2·10^−d in all. A table's lengths are
+// taken to be written to the decimals of its finest stage or depth (rate
+// writes every length to 0.1 mm or 0.0001 ft, trailing zeros dropped), so
+// the tolerance is never smaller than its rounding. A stage less a depth
+// may lie below a stage written by up to three of those half units, 3/4 of
+// the tolerance.
+func footTolerance(d int) float64 { return 2 * math.Pow10(-d) }
+
+// DryFoot returns the gauge height of zero flow e a rating table gives
+// itself when its first row has no flow, as a hydraulic rating written
+// from a section begins (length unit). Where the table gives a depth with
+// its rows with flow (depths, parallel to points, NaN where blank or
+// absent; a depth column as rate writes it, stage less the section's
+// lowest point), e is the stage less the depth of the first row with flow
+// that has one: the lowest point, which a table on stages of its own
+// choosing (rate --from/--to/--step or --stages) straddles between its
+// last dry row and its first row with flow. Every row with flow and a
+// depth must give the same e within the table's rounding (footTolerance);
+// one that does not is warned of (Foot.Warning), the first row's e kept.
+// Without a depth, or with one that puts e below the last dry row or at or
+// above a row with flow (a depth not counted from where the flow starts,
+// warned of too), e is the stage of the last of the leading rows without
+// flow: exact when that row is on the lowest point, as on rate's own
+// stages; else the flow starts somewhere between it and the first row
+// with flow, which the table does not say. A stage less depth below the
+// last dry row by no more than the table's rounding is that row's stage.
+// ok is false when the first row has flow, or the table has fewer than
+// two rows (no interval to read).
+func DryFoot(points []gauged.RatingPoint, depths []float64) (f Foot, ok bool) {
+	if len(points) < 2 || points[0].Discharge != 0 {
+		return Foot{}, false
+	}
+	k := 0
+	for k+1 < len(points) && points[k+1].Discharge == 0 {
+		k++
+	}
+	f = Foot{E: points[k].Stage, dry: k, dryStage: points[k].Stage, wet: -1, wetStage: math.NaN(), depth: -1, other: -1}
+	if k+1 == len(points) {
+		return f, true // every row dry
+	}
+	f.wet, f.wetStage = k+1, points[k+1].Stage
+	d := decimals(f.dryStage)
+	for i := f.wet; i < len(points); i++ {
+		if i < len(depths) && finite(depths[i]) {
+			d = max(d, decimals(points[i].Stage), decimals(depths[i]))
+			if f.depth < 0 {
+				f.depth = i
+			}
+		}
+	}
+	if f.depth < 0 {
+		return f, true
+	}
+	f.tolerance = footTolerance(d)
+	f.depthStage, f.depthD = points[f.depth].Stage, depths[f.depth]
+	f.depthE = rating.DecimalDifference(f.depthStage, f.depthD)
+	switch {
+	case !(f.depthE < f.wetStage):
+		f.doubt = footDepthAtFlow
+		return f, true
+	case f.depthE < f.dryStage-0.75*f.tolerance:
+		f.doubt = footDepthBelowDry
+		return f, true
+	}
+	f.E, f.FromDepth = math.Max(f.depthE, f.dryStage), true
+	for i := f.depth + 1; i < len(points) && i < len(depths); i++ {
+		if !finite(depths[i]) {
+			continue
+		}
+		if e := rating.DecimalDifference(points[i].Stage, depths[i]); math.Abs(e-f.depthE) > f.tolerance {
+			f.doubt, f.other, f.otherE = footDepthsDisagree, i, e
+			break
+		}
+	}
+	return f, true
+}
+
+// TableDryFoot is DryFoot of a rating table as RatingFromTable reads it
+// (its rows' stages, discharges and depths): the gauge height of zero flow
+// the table gives itself when its first row has no flow, for a reader that
+// takes e as every rating-table reader does without a flag giving it.
+func TableDryFoot(t rating.Table) (Foot, bool) {
+	pts := make([]gauged.RatingPoint, len(t.Rows))
+	depths := make([]float64, len(t.Rows))
+	for i, r := range t.Rows {
+		pts[i] = gauged.RatingPoint{Stage: r.Stage, Discharge: r.Discharge}
+		depths[i] = r.Depth
+	}
+	return DryFoot(pts, depths)
+}
+
+// plainLength writes a length of the foot's note or warning as read.
+func plainLength(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+// Note is the input note of a rating table that takes its gauge height
+// of zero flow from its foot, saying where e was read: at gives the
+// position ("file:row") of a row by its index, and flag names the flag
+// not given that would give e ("" when there is none).
+func (f Foot) Note(at func(int) string, flag string) string {
 	given := ""
 	if flag != "" {
 		given = " (" + flag + " not given)"
 	}
-	return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot%s: the table is read log-linearly in (h − e) between rows",
-		at, strconv.FormatFloat(e, 'g', -1, 64), given)
-}
-
-// DryFoot returns the gauge height of zero flow a rating table gives
-// itself when its first row has no flow: the stage of the last of its
-// leading rows without flow, below the first row with flow (length unit).
-// A hydraulic rating written from a section begins so, at the section's
-// lowest point (and, below it, at stages where it holds no water). ok is
-// false when the first row has flow, or the table has fewer than two
-// rows (no interval to read).
-func DryFoot(points []gauged.RatingPoint) (e float64, ok bool) {
-	if len(points) < 2 || points[0].Discharge != 0 {
-		return 0, false
+	const read = "the table is read log-linearly in (h − e) between rows"
+	row := "first row with flow"
+	if f.depth != f.wet {
+		row = "first row with flow and a depth"
 	}
-	e = points[0].Stage
-	for _, p := range points {
-		if p.Discharge > 0 {
-			break
+	switch {
+	case f.FromDepth && f.E == f.dryStage:
+		in := ""
+		if flag != "" {
+			in = "; " + flag + " not given"
 		}
-		e = p.Stage
+		return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot, where its depth column puts the flow's start (the stage less the depth of its %s, %s − %s%s): %s",
+			at(f.dry), plainLength(f.E), row, plainLength(f.depthStage), plainLength(f.depthD), in, read)
+	case f.FromDepth:
+		where := ""
+		if f.depth != f.wet {
+			where = " and below its first row with flow at " + plainLength(f.wetStage)
+		}
+		return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage less the depth of the table's %s (%s − %s), above its last dry row at %s%s%s: %s",
+			at(f.depth), plainLength(f.E), row, plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.dryStage), where, given, read)
 	}
-	return e, true
+	note := fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot%s: %s",
+		at(f.dry), plainLength(f.E), given, read)
+	switch {
+	case f.wet < 0:
+	case f.depth < 0:
+		note += fmt.Sprintf("; the flow starts at or above that row and below the first row with flow, at %s, and the table gives no depth to say where "+
+			"(a table rate writes has a depth column, and on rate's own stages a row on the section's lowest point)", plainLength(f.wetStage))
+	default:
+		note += fmt.Sprintf("; the flow starts at or above that row and below the first row with flow, at %s, and the table's depth column does not say where (see its warning)",
+			plainLength(f.wetStage))
+	}
+	return note
 }
 
-// TableDryFoot is DryFoot of a rating table as RatingFromTable reads it
-// (its rows' stages and discharges): the gauge height of zero flow the
-// table gives itself when its first row has no flow, for a reader that
-// takes e as every rating-table reader does without a flag giving it.
-func TableDryFoot(t rating.Table) (e float64, ok bool) {
-	pts := make([]gauged.RatingPoint, len(t.Rows))
-	for i, r := range t.Rows {
-		pts[i] = gauged.RatingPoint{Stage: r.Stage, Discharge: r.Discharge}
+// Warning words what the table's depth column says against the gauge
+// height of zero flow read (see DryFoot), at the row it concerns (at as
+// for Note); "" when it agrees, or the table gives no depth.
+func (f Foot) Warning(at func(int) string) string {
+	switch f.doubt {
+	case footDepthsDisagree:
+		return fmt.Sprintf("%s: stage less depth is %s here but %s at the first row with flow and a depth (%s), apart by more than the table's rounding (%s): "+
+			"the depths are not all counted from one lowest point; e = %s, the first row's, is used: check the depth column",
+			at(f.other), plainLength(f.otherE), plainLength(f.depthE), at(f.depth), plainLength(f.tolerance), plainLength(f.E))
+	case footDepthBelowDry:
+		return fmt.Sprintf("%s: stage less depth, %s − %s = %s, lies below the table's last dry row at %s (%s), which has no flow: "+
+			"the depth is not counted from where the flow starts, so the gauge height of zero flow is that row's stage: check the depth column",
+			at(f.depth), plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.depthE), plainLength(f.dryStage), at(f.dry))
+	case footDepthAtFlow:
+		return fmt.Sprintf("%s: stage less depth, %s − %s = %s, is not below the stage of the table's first row with flow, %s: "+
+			"the depth is not counted from where the flow starts, so the gauge height of zero flow is the stage of the last dry row, %s: check the depth column",
+			at(f.depth), plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.depthE), plainLength(f.wetStage), plainLength(f.dryStage))
 	}
-	return DryFoot(pts)
+	return ""
 }
 
 // yesWord reads a yes/true cell.

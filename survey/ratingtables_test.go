@@ -2,6 +2,7 @@ package survey
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strconv"
 	"strings"
@@ -191,7 +192,7 @@ func TestParseRatingTablesLongFormat(t *testing.T) {
 	const long = "valid_from,stage,discharge\n" +
 		"2023-01-01T00:00Z,0.5,0\n2023-01-01T00:00Z,1.0,2\n2023-01-01T10:00+10:00,2.0,9\n" +
 		"2024-06-01T00:00+10:00,0.6,0\n2024-05-31T14:00Z,1.2,3\n"
-	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4})
+	rs, err := ParseRatingTables(strings.NewReader(long), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.6})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,7 +202,7 @@ func TestParseRatingTablesLongFormat(t *testing.T) {
 		t.Errorf("periods %+v", rs.Periods)
 	}
 	const back = "valid_from,stage,discharge\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n2024-01-01,0.5,0\n2024-01-01,1.0,2\n2023-01-01,0.5,0\n2023-01-01,1.0,2\n"
-	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.4}); !errors.Is(err, gauged.ErrPeriodOrder) ||
+	if _, err := ParseRatingTables(strings.NewReader(back), "r.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.5}); !errors.Is(err, gauged.ErrPeriodOrder) ||
 		!strings.Contains(err.Error(), "r.csv:6:1") {
 		t.Errorf("a period come back: %v", err)
 	}
@@ -236,8 +237,9 @@ func TestRatingTableAllExtrapolated(t *testing.T) {
 	}
 }
 
-// DryFoot gives a table's own gauge height of zero flow: the last of its
-// leading rows without flow.
+// DryFoot gives a table's own gauge height of zero flow: stage less depth
+// of its first row with flow where it gives depths that agree with its
+// rows, else the last of its leading rows without flow.
 func TestDryFoot(t *testing.T) {
 	pts := func(pairs ...float64) []gauged.RatingPoint {
 		var out []gauged.RatingPoint
@@ -246,25 +248,214 @@ func TestDryFoot(t *testing.T) {
 		}
 		return out
 	}
+	nan := math.NaN()
 	for _, tc := range []struct {
-		name   string
-		points []gauged.RatingPoint
-		e      float64
-		ok     bool
+		name      string
+		points    []gauged.RatingPoint
+		depths    []float64
+		e         float64
+		ok        bool
+		fromDepth bool
+		doubt     footDoubt
 	}{
-		{"one dry row", pts(0.2, 0, 0.4, 1.5, 0.6, 4), 0.2, true},
-		{"dry rows below the foot", pts(-0.5, 0, 0, 0, 0.2, 0, 0.4, 1.5), 0.2, true},
-		{"flow from the first row", pts(0.2, 0.3, 0.4, 1.5), 0, false},
-		{"one row", pts(0.2, 0), 0, false},
-		{"no rows", nil, 0, false},
-		{"every row dry", pts(0.2, 0, 0.4, 0), 0.4, true},
+		{"one dry row", pts(0.2, 0, 0.4, 1.5, 0.6, 4), nil, 0.2, true, false, footAgrees},
+		{"dry rows below the foot", pts(-0.5, 0, 0, 0, 0.2, 0, 0.4, 1.5), nil, 0.2, true, false, footAgrees},
+		{"flow from the first row", pts(0.2, 0.3, 0.4, 1.5), nil, 0, false, false, footAgrees},
+		{"one row", pts(0.2, 0), nil, 0, false, false, footAgrees},
+		{"no rows", nil, nil, 0, false, false, footAgrees},
+		{"every row dry", pts(0.2, 0, 0.4, 0), nil, 0.4, true, false, footAgrees},
+		{"blank depths", pts(0.2, 0, 0.4, 1.5), []float64{nan, nan}, 0.2, true, false, footAgrees},
+		// Rows straddling the lowest point, 100.37, as rate writes them on
+		// stages of the user's.
+		{"depth between rows", pts(100.2, 0, 100.3, 0, 100.4, 0.0037, 100.5, 0.12), []float64{0, 0, 0.03, 0.13}, 100.37, true, true, footAgrees},
+		{"depth at the dry row", pts(100.37, 0, 100.47, 0.05, 100.57, 0.3), []float64{0, 0.1, 0.2}, 100.37, true, true, footAgrees},
+		{"depth of a later row", pts(100.3, 0, 100.4, 0.0037, 100.5, 0.12), []float64{0, nan, 0.13}, 100.37, true, true, footAgrees},
+		// Written to 4 decimals: stage less depth 100.3712 is the dry
+		// row's, 100.3713, within their rounding.
+		{"depth rounded at the dry row", pts(100.3713, 0, 100.4, 0.004), []float64{0, 0.0288}, 100.3713, true, true, footAgrees},
+		{"depths disagree", pts(100.3, 0, 100.4, 0.0037, 100.5, 0.12), []float64{0, 0.03, 0.05}, 100.37, true, true, footDepthsDisagree},
+		{"depth below the dry row", pts(100.3, 0, 100.4, 0.0037, 100.5, 0.12), []float64{0.2, 0.3, 0.4}, 100.3, true, false, footDepthBelowDry},
+		{"depth at flow", pts(100.3, 0, 100.4, 0.0037, 100.5, 0.12), []float64{0, 0, 0.1}, 100.3, true, false, footDepthAtFlow},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
-			e, ok := DryFoot(tc.points)
-			if ok != tc.ok || (ok && e != tc.e) {
-				t.Errorf("DryFoot = %g, %v; want %g, %v", e, ok, tc.e, tc.ok)
+			f, ok := DryFoot(tc.points, tc.depths)
+			if ok != tc.ok || (ok && (f.E != tc.e || f.FromDepth != tc.fromDepth || f.doubt != tc.doubt)) {
+				t.Errorf("DryFoot = %+v, %v; want e %g from depth %v doubt %d, %v", f, ok, tc.e, tc.fromDepth, tc.doubt, tc.ok)
+			}
+			at := func(i int) string { return "r.csv:" + strconv.Itoa(i+2) }
+			if w := f.Warning(at); (w != "") != (tc.doubt != footAgrees) {
+				t.Errorf("warning %q for doubt %d", w, tc.doubt)
 			}
 		})
+	}
+	// On rate's own stages a row is on the lowest point: e is that dry
+	// row's stage, and the depth column agrees.
+	f, _ := DryFoot(pts(100.37, 0, 100.47, 0.05, 100.57, 0.3), []float64{0, 0.1, 0.2})
+	const want = "r.csv:2: the gauge height of zero flow e = 100.37 is the stage of the table's last dry row at its foot, where its depth column puts the flow's start " +
+		"(the stage less the depth of its first row with flow, 100.47 − 0.1; --zero-flow not given): the table is read log-linearly in (h − e) between rows"
+	if note := f.Note(func(i int) string { return "r.csv:" + strconv.Itoa(i+2) }, "--zero-flow"); note != want {
+		t.Errorf("note %q, want %q", note, want)
+	}
+}
+
+// triangleQ is the discharge of a triangular channel of side slopes z
+// (horizontal to vertical) at depth y by Manning's formula in SI units,
+// Q = (1/n)·A·R^(2/3)·S^(1/2), A = z·y², R = z·y / (2·√(1 + z²)): a power
+// law in depth of exponent 8/3, which a table read log-linearly in
+// (h − e) with e on the vertex reproduces exactly between any two rows
+// (Chow, V.T., 1959, Open-Channel Hydraulics, McGraw-Hill: the Manning
+// formula in chap. 5 and a triangle's elements in table 2-1; section and
+// table numbers from memory).
+func triangleQ(z, n, s, y float64) float64 {
+	if y <= 0 {
+		return 0
+	}
+	a := z * y * y
+	r := z * y / (2 * math.Sqrt(1+z*z))
+	return a * math.Pow(r, 2.0/3) * math.Sqrt(s) / n
+}
+
+// A table on stages that straddle the channel's lowest point (as rate
+// writes one on --from/--to/--step) is read with e on that point, from its
+// depth column: every reader of a rating table (for discharge, for a
+// backwater boundary, for a figure) reads the closed-form power law back
+// at the stages between the rows, also between the last dry row and the
+// first with flow, and zero flow below the point; without a depth column
+// the last dry row stands for e, and the note says the flow starts
+// between it and the first row with flow.
+func TestDryFootFromDepthReadsPowerLaw(t *testing.T) {
+	const z, n, slope, bottom = 5.0, 0.035, 0.0015, 100.37
+	var withDepth, without strings.Builder
+	withDepth.WriteString("stage,depth,discharge\n")
+	without.WriteString("stage,discharge\n")
+	for i := 0; i <= 10; i++ {
+		h := rating.StepMultiple(float64(i), 0.1) + 100
+		y := math.Max(0, rating.DecimalDifference(h, bottom))
+		q := formatG(triangleQ(z, n, slope, y))
+		fmt.Fprintf(&withDepth, "%s,%s,%s\n", formatG(h), strconv.FormatFloat(y, 'f', 4, 64), q)
+		fmt.Fprintf(&without, "%s,%s\n", formatG(h), q)
+	}
+	rs, err := ParseRatingTables(strings.NewReader(withDepth.String()), "t.csv", RatingTableOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rt := rs.Periods[0].Rating
+	if !rt.HasZeroFlow || rt.ZeroFlow != bottom || len(rs.Warnings) != 0 || len(rs.Notes) != 1 ||
+		!strings.Contains(rs.Notes[0], "t.csv:6: the gauge height of zero flow e = 100.37 is the stage less the depth of the table's first row with flow (100.4 − 0.03), above its last dry row at 100.3") {
+		t.Fatalf("zero flow %v at %g, warnings %q, notes %q", rt.HasZeroFlow, rt.ZeroFlow, rs.Warnings, rs.Notes)
+	}
+	tr, err := rt.Compile()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, h := range []float64{100.38, 100.4, 100.45, 100.77} {
+		want := triangleQ(z, n, slope, h-bottom)
+		if q, how := tr.Discharge(h); how != gauged.InTable || math.Abs(q-want) > 1e-9*want {
+			t.Errorf("Q(%g) = %g (%v), want %g (Manning on the triangle)", h, q, how, want)
+		}
+	}
+	for _, h := range []float64{100.35, 100.37} {
+		if q, how := tr.Discharge(h); q != 0 || how != gauged.ZeroFlow {
+			t.Errorf("Q(%g) = %g (%v), want zero flow below the lowest point", h, q, how)
+		}
+	}
+	// The backwater boundary reads the same table the same way.
+	ptab, err := ParseCSV(strings.NewReader(withDepth.String()), "t.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	br, err := BoundaryRatingFromTable(ptab)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := br.Boundary()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if h, err := b.StageOf(triangleQ(z, n, slope, 0.08)); err != nil || math.Abs(h-100.45) > 1e-9 {
+		t.Errorf("boundary stage at Q(100.45) = %g, %v; want 100.45", h, err)
+	}
+	if h, err := b.StageOf(0); err != nil || h != bottom {
+		t.Errorf("boundary stage at zero flow = %g, %v; want %g", h, err, bottom)
+	}
+	if note := br.ZeroFlowNote(); !strings.Contains(note, "t.csv:6: the gauge height of zero flow e = 100.37") || len(br.Warnings) != 0 {
+		t.Errorf("boundary note %q, warnings %q", note, br.Warnings)
+	}
+	// A figure's reader of the table finds the same e.
+	table, err := ParseRatingCSV(strings.NewReader(withDepth.String()), "t.csv", UnitChoice{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f, ok := TableDryFoot(table); !ok || f.E != bottom || !f.FromDepth {
+		t.Errorf("TableDryFoot = %+v, %v; want %g from the depth column", f, ok, bottom)
+	}
+	// Without depths: the last dry row, said to stand below the start of
+	// the flow.
+	rs, err = ParseRatingTables(strings.NewReader(without.String()), "t.csv", RatingTableOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rt := rs.Periods[0].Rating; rt.ZeroFlow != 100.3 || len(rs.Notes) != 1 ||
+		!strings.Contains(rs.Notes[0], "t.csv:5: the gauge height of zero flow e = 100.3 is the stage of the table's last dry row at its foot (--zero-flow not given)") ||
+		!strings.Contains(rs.Notes[0], "the flow starts at or above that row and below the first row with flow, at 100.4, and the table gives no depth to say where") {
+		t.Errorf("zero flow %g, notes %q", rt.ZeroFlow, rs.Notes)
+	}
+}
+
+// A depth column that contradicts the rows' flow is warned of, at its
+// row, and e is then the last dry row's stage (or, for depths that
+// disagree among themselves, the first row with flow's).
+func TestDryFootDepthWarnings(t *testing.T) {
+	for _, tc := range []struct {
+		name, csv string
+		e         float64
+		warning   string
+	}{
+		{"depths disagree", "stage,depth,discharge\n100.3,0,0\n100.4,0.03,0.0037\n100.5,0.13,0.12\n100.6,0.33,0.43\n", 100.37,
+			"t.csv:5: stage less depth is 100.27 here but 100.37 at the first row with flow and a depth (t.csv:3), apart by more than the table's rounding (0.02)"},
+		{"below the dry row", "stage,depth,discharge\n100.3,0.15,0\n100.4,0.25,0.0037\n100.5,0.35,0.12\n", 100.3,
+			"t.csv:3: stage less depth, 100.4 − 0.25 = 100.15, lies below the table's last dry row at 100.3 (t.csv:2), which has no flow"},
+		{"at flow", "stage,depth,discharge\n100.3,0,0\n100.4,0,0.0037\n100.5,0.1,0.12\n", 100.3,
+			"t.csv:3: stage less depth, 100.4 − 0 = 100.4, is not below the stage of the table's first row with flow, 100.4"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rs, err := ParseRatingTables(strings.NewReader(tc.csv), "t.csv", RatingTableOptions{})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if rt := rs.Periods[0].Rating; rt.ZeroFlow != tc.e || len(rs.Warnings) != 1 || !strings.Contains(rs.Warnings[0], tc.warning) {
+				t.Errorf("e = %g, warnings %q; want %g and %q", rt.ZeroFlow, rs.Warnings, tc.e, tc.warning)
+			}
+		})
+	}
+	// A bad depth cell is an error at the cell.
+	_, err := ParseRatingTables(strings.NewReader("stage,depth,discharge\n100.3,0,0\n100.4,x,0.0037\n"), "t.csv", RatingTableOptions{})
+	if err == nil || !strings.Contains(err.Error(), "t.csv:3:2") {
+		t.Errorf("bad depth: %v", err)
+	}
+}
+
+// A row without flow above a given gauge height of zero flow contradicts
+// it: refused by the readers for discharge, as a row with flow at or
+// below it is; warned of by the figure's reader.
+func TestDryRowAboveGivenZeroFlow(t *testing.T) {
+	const table = "stage,discharge\n0.25,0\n0.35,0.40\n0.55,2.9\n"
+	_, err := ParseRatingTables(strings.NewReader(table), "b.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.1})
+	if !errors.Is(err, gauged.ErrDryAboveZeroFlow) || !strings.Contains(err.Error(), "b.csv:2:1") {
+		t.Errorf("error %v, want %v at b.csv:2:1", err, gauged.ErrDryAboveZeroFlow)
+	}
+	for _, e := range []float64{0.25, 0.3} {
+		if _, err := ParseRatingTables(strings.NewReader(table), "b.csv", RatingTableOptions{HasZeroFlow: true, ZeroFlow: e}); err != nil {
+			t.Errorf("e = %g at or above the dry row: %v", e, err)
+		}
+	}
+	ptab, err := ParseCSV(strings.NewReader(table), "b.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	rt, err := RatingFromTableGiven(ptab, UnitChoice{}, ZeroFlowGiven{Given: true, Value: 0.1})
+	if err != nil || len(rt.Warnings) != 1 || !strings.Contains(rt.Warnings[0], "b.csv:2: this row, at stage 0.25, has no flow, yet lies above the gauge height of zero flow 0.1 that --zero-flow gives") {
+		t.Errorf("warnings %q, %v", rt.Warnings, err)
 	}
 }
 
@@ -285,9 +476,10 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 		note        string
 	}{
 		{"at the dry foot", table, RatingTableOptions{Datum: 100}, true, 0, "",
-			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's last dry row at its foot (--zero-flow not given): the table is read log-linearly in (h − e) between rows"},
+			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's last dry row at its foot (--zero-flow not given): the table is read log-linearly in (h − e) between rows; " +
+				"the flow starts at or above that row and below the first row with flow, at 0.5, and the table gives no depth to say where"},
 		{"at the dry foot, flag named", table, RatingTableOptions{Datum: 100, ZeroFlowFlag: "--hydraulic-zero-flow"}, true, 0, "", "(--hydraulic-zero-flow not given)"},
-		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: -0.2}, true, -0.2, "", ""},
+		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
 		{"no dry row", wet, RatingTableOptions{Datum: 100}, false, 0,
 			"hydraulic.csv: the table has no row without flow and --zero-flow is not given, so it is read linearly in stage between rows; give --zero-flow E", ""},
 		{"no dry row, given", wet, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},

@@ -943,8 +943,12 @@ type BoundaryRating struct {
 	Points []reach.StageDischarge
 	// Rows are the 1-based lines or sheet rows of Points.
 	Rows []int
+	// Depths are the depths of Points (a depth column, as rate writes
+	// it; NaN where blank or absent, nil for none): they say where the
+	// flow starts (DryFoot).
+	Depths []float64
 	// Warnings are unusual but legal facts about where it was read (a
-	// hidden sheet).
+	// hidden sheet, a depth column that disagrees with the rows' flow).
 	Warnings []string
 	// Units is what the stage and discharge headers say of the unit
 	// system (see Reach.AgreeBoundary).
@@ -954,11 +958,12 @@ type BoundaryRating struct {
 // Boundary returns the downstream boundary of a step-backwater
 // computation that reads this rating as the project reads every rating
 // table (gauged.TableRating): log-linearly in (h − e) between rows, where
-// the table begins at a row without flow whose stage is e, the gauge
-// height of zero flow (as the table rate writes begins, at the section's
-// lowest point; DryFoot), and linearly where it has no such row, which
-// the boundary's Warnings then say, naming the dry first row that gives
-// the log-linear reading. A discharge outside the table's rows is an error wrapping
+// the table begins at a row without flow, e the gauge height of zero flow
+// it gives itself (DryFoot: from its depth column where it has one, as the
+// table rate writes, else the stage of that dry row), and linearly where
+// it has no such row, which the boundary's Warnings then say, naming the
+// dry first row that gives the log-linear reading. Zero discharge stands
+// at e. A discharge outside the table's rows is an error wrapping
 // reach.ErrBoundaryRange; the table is never extrapolated. Points stay in
 // the boundary, for its description and reports.
 //
@@ -972,7 +977,8 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 		pts[i] = gauged.RatingPoint{Stage: p.Stage, Discharge: p.Discharge}
 	}
 	rt := gauged.RatingTable{Name: Position(b.File, b.Sheet), Points: pts}
-	rt.ZeroFlow, rt.HasZeroFlow = DryFoot(pts)
+	foot, _, dry := b.foot()
+	rt.ZeroFlow, rt.HasZeroFlow = foot.E, dry
 	tr, err := rt.Compile()
 	if err != nil {
 		return reach.Boundary{}, &ParseError{File: b.File, Sheet: b.Sheet, Err: err}
@@ -983,7 +989,7 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 			return math.NaN(), fmt.Errorf("%w: %g is not within %g to %g", reach.ErrBoundaryRange, q, lo, hi)
 		}
 		if q == 0 {
-			return pts[0].Stage, nil
+			return rt.ZeroFlow, nil
 		}
 		return tr.Stage(q)
 	}
@@ -996,14 +1002,34 @@ func (b BoundaryRating) Boundary() (reach.Boundary, error) {
 	return out, nil
 }
 
+// foot is the gauge height of zero flow the rating gives itself
+// (DryFoot), and the position of a row of Points by its index.
+func (b BoundaryRating) foot() (Foot, func(int) string, bool) {
+	pts := make([]gauged.RatingPoint, len(b.Points))
+	for i, p := range b.Points {
+		pts[i] = gauged.RatingPoint{Stage: p.Stage, Discharge: p.Discharge}
+	}
+	f, ok := DryFoot(pts, b.Depths)
+	at := func(i int) string {
+		row := 0
+		if i < len(b.Rows) {
+			row = b.Rows[i]
+		}
+		return (&ParseError{File: b.File, Sheet: b.Sheet, Row: row}).Position()
+	}
+	return f, at, ok
+}
+
 // ZeroFlowNote is the input note of a boundary rating that Boundary
-// reads log-linearly in (h − e), e the stage of its dry first row (see
-// DryFootNote), naming that row; "" for a rating read linearly.
+// reads log-linearly in (h − e), e the gauge height of zero flow it gives
+// itself (see DryFoot and Foot.Note), naming the row it was read from;
+// "" for a rating read linearly.
 func (b BoundaryRating) ZeroFlowNote() string {
-	if len(b.Points) < 2 || b.Points[0].Discharge != 0 || len(b.Rows) == 0 {
+	f, at, ok := b.foot()
+	if !ok || len(b.Rows) == 0 {
 		return ""
 	}
-	return DryFootNote((&ParseError{File: b.File, Sheet: b.Sheet, Row: b.Rows[0]}).Position(), b.Points[0].Stage, "")
+	return f.Note(at, "")
 }
 
 // ReadBoundaryRating reads a stage–discharge relation from a CSV file or
@@ -1021,12 +1047,13 @@ func ReadBoundaryRating(path, sheet string) (BoundaryRating, error) {
 }
 
 // BoundaryRatingFromTable reads the stage (or gauge_height) and
-// discharge columns of t. Both
-// are required in every row, bounded as in RatingFromTable (ErrImplausible
-// at the cell), discharge not negative; of a leading run of
-// rows without flow (a rating table starts at the dry bed) only the last
-// is kept; from there on stage and discharge must both increase. Every bad
-// cell is reported, each naming its row and column.
+// discharge columns of t, and its depth column where it has one (blank
+// cells allowed; see DryFoot, whose warning of the depths it adds). Stage
+// and discharge are required in every row, bounded as in RatingFromTable
+// (ErrImplausible at the cell), discharge not negative; of a leading run
+// of rows without flow (a rating table starts at the dry bed) only the
+// last is kept; from there on stage and discharge must both increase.
+// Every bad cell is reported, each naming its row and column.
 func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 	out := BoundaryRating{File: t.File, Sheet: t.Sheet, Warnings: t.ownWarnings()}
 	cs, cq, units, err := t.stageDischargeColumns()
@@ -1034,15 +1061,17 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 	if err != nil {
 		return out, err
 	}
-	if err := t.unsavedIn(cs, cq); err != nil {
+	cd := t.Column(ColRatingDepth)
+	if err := t.unsavedIn(cs, cq, cd); err != nil {
 		return out, err
 	}
 	var errs errorList
 	for _, rec := range t.Records {
 		h, errh := t.number(rec, cs, "stage", MaxElevation)
 		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
-		errs.add(errh, errq)
-		if errh != nil || errq != nil {
+		depth, errd := t.depth(rec, cd)
+		errs.add(errh, errq, errd)
+		if errh != nil || errq != nil || errd != nil {
 			continue
 		}
 		n := len(out.Points)
@@ -1051,7 +1080,7 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 			errs = append(errs, t.At(rec, cq, ErrNegativeFlow))
 			continue
 		case n == 1 && out.Points[0].Discharge == 0 && q == 0 && h > out.Points[0].Stage:
-			out.Points, out.Rows = out.Points[:0], out.Rows[:0] // still dry: keep the last dry row only
+			out.Points, out.Rows, out.Depths = out.Points[:0], out.Rows[:0], out.Depths[:0] // still dry: keep the last dry row only
 		case n > 0 && !(h > out.Points[n-1].Stage):
 			errs = append(errs, t.At(rec, cs, fmt.Errorf("%w (%g after %g)", ErrBoundaryOrder, h, out.Points[n-1].Stage)))
 			continue
@@ -1061,12 +1090,18 @@ func BoundaryRatingFromTable(t *Table) (BoundaryRating, error) {
 		}
 		out.Points = append(out.Points, reach.StageDischarge{Stage: h, Discharge: q})
 		out.Rows = append(out.Rows, rec.Row)
+		out.Depths = append(out.Depths, depth)
 	}
 	if err := errs.err(); err != nil {
 		return out, err
 	}
 	if len(out.Points) < 2 {
 		return out, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Err: ErrBoundaryPoints}
+	}
+	if f, at, ok := out.foot(); ok {
+		if w := f.Warning(at); w != "" {
+			out.Warnings = append(out.Warnings, w)
+		}
 	}
 	return out, nil
 }

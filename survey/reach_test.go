@@ -589,9 +589,12 @@ func FuzzReachTableBackwater(f *testing.F) {
 }
 
 // FuzzBoundaryRatingFromTable checks that an accepted boundary rating
-// increases in stage and discharge.
+// increases in stage and discharge, and makes a boundary (its own zero
+// flow, from a depth column or its dry row, fits its rows).
 func FuzzBoundaryRatingFromTable(f *testing.F) {
 	f.Add([]byte("stage,discharge\n100,0\n100.5,0\n101,2\n102,9\n"))
+	f.Add([]byte("stage,depth,discharge\n100,0,0\n100.3,0,0\n100.4,0.03,0.004\n100.5,0.13,0.12\n"))
+	f.Add([]byte("stage,depth,discharge\n100.3,0.3,0\n100.4,0.4,0.004\n100.5,x,0.12\n"))
 	f.Add([]byte("Stage (m),Discharge (m3/s)\n1,1\n"))
 	f.Add([]byte("stage,discharge\n1,0\n2e5,1e308\n"))
 	f.Fuzz(func(t *testing.T, data []byte) {
@@ -616,6 +619,9 @@ func FuzzBoundaryRatingFromTable(f *testing.F) {
 			if math.Abs(p.Stage) > MaxElevation || p.Discharge > rating.MaxDischarge {
 				t.Errorf("implausible point %v accepted", p)
 			}
+		}
+		if _, err := b.Boundary(); err != nil {
+			t.Errorf("accepted rating makes no boundary: %v", err)
 		}
 	})
 }

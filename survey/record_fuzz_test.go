@@ -181,6 +181,8 @@ func FuzzParseRatingTables(f *testing.F) {
 	f.Add("Stage (ft),discharge [cfs],lower_95 (ft3/s)\n0.5,1,0.9\n1,3,2.8\n", math.NaN(), false)
 	f.Add("stage (ft),discharge (m3/s)\n0.5,1\n", math.NaN(), false)
 	f.Add("stage,discharge\n0.5,1\n2e5,1e308\n", math.NaN(), false)
+	f.Add("stage,depth,discharge\n100.3,0,0\n100.4,0.03,0.0037\n100.5,0.13,0.12\n", math.NaN(), false)
+	f.Add("stage,depth,discharge\n100.3,0.2,0\n100.4,,0.0037\n100.5,0.05,0.12\n", math.NaN(), true)
 	f.Fuzz(func(t *testing.T, in string, e float64, extrapolate bool) {
 		rs, err := ParseRatingTables(strings.NewReader(in), "f.csv", RatingTableOptions{HasZeroFlow: !math.IsNaN(e), ZeroFlow: e, Extrapolate: extrapolate})
 		checkPositioned(t, err, "f.csv")

@@ -71,7 +71,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.notGiven("slope")
 	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
 	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first visible sheet)")
-	fs.Float64Var(&f.hydraulicZero, "hydraulic-zero-flow", 0, "gauge height of zero flow e of --hydraulic-rating: between rows the table is read log-linearly in (h − e), as shifts, record and compare read a rating given --zero-flow (default: the stage of the table's dry foot, its last leading row without flow; a table with neither is read linearly, with a warning)")
+	fs.Float64Var(&f.hydraulicZero, "hydraulic-zero-flow", 0, "gauge height of zero flow e of --hydraulic-rating: between rows the table is read log-linearly in (h − e), as shifts, record and compare read a rating given --zero-flow (e may not lie below a row without flow; default: where the table's flow starts, from its depth column, else its last leading row without flow; a table with neither is read linearly, with a warning)")
 	fs.notGiven("hydraulic-zero-flow")
 	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
 	fs.notGiven("datum")
@@ -264,17 +264,18 @@ type hydraulicZero struct {
 // (stage − datum) with the reader the shifts, record and compare commands
 // use (survey.ReadRatingTables), so that it is read as they read a rating:
 // log-linearly in (h − e) between rows, e the gauge height of zero flow
-// zero.e when given, else the stage of the table's dry foot
-// (survey.DryFoot); a table with neither is read linearly in stage,
-// with a warning. The units of its headers must be those decided, or
-// decide them (see unitsDecided.takeTable, which gives the first input
-// note returned; a dry foot's e is another). A zero-flow stage at or above a
-// row with flow is an error naming the flag.
+// zero.e when given, else where the table's flow starts (survey.DryFoot:
+// from its depth column, else its last dry row at its foot); a table with
+// neither is read linearly in stage, with a warning. The units of its
+// headers must be those decided, or decide them (see
+// unitsDecided.takeTable, which gives the first input note returned; a
+// dry foot's e is another). A zero-flow stage at or above a row with
+// flow, or below a row without flow, is an error naming the flag.
 func readHydraulicTable(path, sheet string, datum float64, zero hydraulicZero, units *unitsDecided) (*gauged.TableRating, []string, []string, error) {
 	opt := survey.RatingTableOptions{Sheet: sheet, Datum: datum, HasZeroFlow: zero.given, ZeroFlow: zero.e,
 		ZeroFlowFlag: "--hydraulic-zero-flow"}
 	rt, err := survey.ReadRatingTables(path, opt)
-	if zero.given && errors.Is(err, gauged.ErrZeroFlowAbove) {
+	if zero.given && (errors.Is(err, gauged.ErrZeroFlowAbove) || errors.Is(err, gauged.ErrDryAboveZeroFlow)) {
 		return nil, nil, nil, fmt.Errorf("fit: --hydraulic-zero-flow %s: %w", strconv.FormatFloat(zero.e, 'g', -1, 64), err)
 	}
 	if err != nil {

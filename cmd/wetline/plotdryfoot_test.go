@@ -31,7 +31,7 @@ func TestPlotDryFootZeroFlow(t *testing.T) {
 		want bool
 	}{
 		{"dry foot", []string{"plot", dry, "-o", filepath.Join(dir, "a")}, true},
-		{"given", []string{"plot", dry, "--zero-flow", "0.45", "-o", filepath.Join(dir, "b")}, false},
+		{"given", []string{"plot", dry, "--zero-flow", "0.5", "-o", filepath.Join(dir, "b")}, false},
 		{"first row flows", []string{"plot", wet, "-o", filepath.Join(dir, "c")}, false},
 	} {
 		t.Run(c.name, func(t *testing.T) {

@@ -53,7 +53,7 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
 		"or none@TIME for a period without a rating; repeat for each rating period")
 	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first visible sheet)")
-	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows; default: the stage of a table's dry first row, else linear, with a warning)")
+	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows; e may not lie below a row without flow; default: where a table's flow starts, from its depth column, else its last dry row, else linear, with a warning)")
 	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating, where the periods without a rating (none@TIME) may be left out (default: from an extrapolated column)")
 	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
@@ -101,9 +101,10 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 
 // zeroFlowAbove names --zero-flow in an error of a rating table read with
 // the gauge height of zero flow that flag gave, when that height lies at
-// or above a row with flow; other errors are returned as they are.
+// or above a row with flow, or below a row without flow; other errors are
+// returned as they are.
 func zeroFlowAbove(cmd string, opt survey.RatingTableOptions, err error) error {
-	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) {
+	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) && !errors.Is(err, gauged.ErrDryAboveZeroFlow) {
 		return err
 	}
 	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64), err)

@@ -82,6 +82,7 @@ var (
 	ErrRatingStages      = errors.New("stages of a rating table must increase from row to row")
 	ErrRatingNotRising   = errors.New("discharge must rise with stage once it is above zero")
 	ErrZeroFlowAbove     = errors.New("the gauge height of zero flow is at or above a row with flow")
+	ErrDryAboveZeroFlow  = errors.New("a row without flow lies above the gauge height of zero flow")
 	ErrBeyondTable       = errors.New("outside the rating table")
 	ErrNoCommonRange     = errors.New("the two ratings share no range of stage")
 	ErrRatingNoDischarge = errors.New("no stage of the rating carries this discharge")
@@ -110,7 +111,10 @@ func (e *RatingError) Unwrap() error { return e.Err }
 // or nil. Stages must strictly increase; discharges must be finite and
 // ≥ 0, and once above zero must strictly rise (rows of zero discharge may
 // repeat at the foot of the table, below the control); e may not lie at or
-// above a row with flow.
+// above a row with flow (ErrZeroFlowAbove), nor below a row without flow
+// (ErrDryAboveZeroFlow): above e the control passes flow, so a dry row
+// there contradicts e as a row with flow at or below it does, and the
+// table's foot could not be read log-linearly in (h − e).
 func (t RatingTable) Validate() error {
 	if len(t.Points) < 2 {
 		return &RatingError{Point: -1, Field: "points", Err: ErrRatingTooFew}
@@ -132,6 +136,9 @@ func (t RatingTable) Validate() error {
 		}
 		if t.HasZeroFlow && p.Discharge > 0 && !(p.Stage > t.ZeroFlow) {
 			return &RatingError{Point: i, Field: "stage", Err: fmt.Errorf("%w: %g carries %g but e is %g", ErrZeroFlowAbove, p.Stage, p.Discharge, t.ZeroFlow)}
+		}
+		if t.HasZeroFlow && p.Discharge == 0 && p.Stage > t.ZeroFlow {
+			return &RatingError{Point: i, Field: "stage", Err: fmt.Errorf("%w: %g has no flow but e is %g", ErrDryAboveZeroFlow, p.Stage, t.ZeroFlow)}
 		}
 		if i == 0 {
 			continue

@@ -165,6 +165,8 @@ func TestRatingValidate(t *testing.T) {
 		{"negative", RatingTable{Points: []RatingPoint{{1, -1}, {2, 0}}}, 0, ErrRatingNegative},
 		{"NaN", RatingTable{Points: []RatingPoint{{1, 0}, {math.NaN(), 1}}}, 1, ErrRatingNotFinite},
 		{"e above flow", RatingTable{Points: []RatingPoint{{1, 1}, {2, 3}}, HasZeroFlow: true, ZeroFlow: 1}, 0, ErrZeroFlowAbove},
+		{"dry row above e", RatingTable{Points: []RatingPoint{{0.25, 0}, {0.35, 0.4}, {0.55, 2.9}}, HasZeroFlow: true, ZeroFlow: 0.1}, 0, ErrDryAboveZeroFlow},
+		{"second dry row above e", RatingTable{Points: []RatingPoint{{0.05, 0}, {0.25, 0}, {0.35, 0.4}}, HasZeroFlow: true, ZeroFlow: 0.1}, 1, ErrDryAboveZeroFlow},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := tc.rt.Compile()
@@ -177,6 +179,13 @@ func TestRatingValidate(t *testing.T) {
 	// Zero rows may repeat at the foot of the table (a pool below the control).
 	if _, err := (RatingTable{Points: []RatingPoint{{0.1, 0}, {0.2, 0}, {0.5, 1}}}).Compile(); err != nil {
 		t.Errorf("zero rows at the foot: %v", err)
+	}
+	// Dry rows at and below e, and e between the last dry row and the
+	// first with flow, agree with it.
+	for _, e := range []float64{0.2, 0.37} {
+		if _, err := (RatingTable{Points: []RatingPoint{{0.1, 0}, {0.2, 0}, {0.5, 1}}, HasZeroFlow: true, ZeroFlow: e}).Compile(); err != nil {
+			t.Errorf("dry rows at or below e = %g: %v", e, err)
+		}
 	}
 }
 
