@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"slices"
 	"sort"
 	"strings"
 	"time"
@@ -236,6 +237,26 @@ const (
 // breakCandidates bounds the trial breakpoints per break, by number of controls.
 var breakCandidates = [MaxControls + 1]int{0, 0, 24, 16, 12}
 
+// Profile of the fitted breakpoints (see lsqProblem.profile).
+const (
+	// profileGrid and profileGridMore bound the positions of one
+	// breakpoint held at once, for two controls and for more; beyond
+	// them the grid is refined around the least profileRefine minima.
+	profileGrid, profileGridMore, profileRefine = 64, 24, 2
+	// profileRounds bounds the rounds over the breakpoints of three or
+	// four controls.
+	profileRounds = 4
+	// profileRelTol is the relative decrease of the sum of squares a
+	// trial position must make to be preferred.
+	profileRelTol = 1e-12
+	// profileLMTol is the relative decrease of the sum of squares below
+	// which a step of a held fit counts as no progress (the polish that
+	// follows the profile goes on to lmRelTol).
+	profileLMTol = 1e-8
+	// profileLMIter bounds the iterations of a held fit.
+	profileLMIter = 30
+)
+
 // lsqProblem is a least-squares fit in progress.
 type lsqProblem struct {
 	m        *model
@@ -255,9 +276,17 @@ type lsqProblem struct {
 // for every trial set of breakpoints (the given ones, or midpoints between
 // gaugings leaving each control MinPerSegment of them), the first offset
 // by a profile over trial offsets (Johnson's estimate among them) and each
-// later control by a profile over its own offset under continuity; the
-// best few are polished by Nelder–Mead and Levenberg–Marquardt. Standard
-// errors by the delta method from s²·(JᵀWJ)⁻¹.
+// later control by a profile over its own offset under continuity. Fitted
+// breakpoints are then sought over every position they may take, each
+// control keeping MinPerSegment gaugings, by a profile of the sum of
+// squares: a breakpoint is held at each position of a grid of the gauged
+// stages and the midpoints between them, the other parameters fitted
+// there, and the least positions kept; the one breakpoint of two
+// controls over its whole range, those of three or four controls one at
+// a time with the others held, in rounds until none moves (see
+// lsqProblem.profile). The best of these and of the starts are polished
+// by Nelder–Mead and Levenberg–Marquardt with every parameter free.
+// Standard errors by the delta method from s²·(JᵀWJ)⁻¹.
 //
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
 // are not fitted but get their departures. Errors: ErrControlOptions,
@@ -278,6 +307,9 @@ type lsqProblem struct {
 //	TWRI 3-A10.
 //	Seber, G. A. F., Wild, C. J. (1989). Nonlinear Regression. Wiley,
 //	chapter 5 (standard errors and bands by linearisation; from memory).
+//	Lerman, P. M. (1980). Fitting segmented regression models by grid
+//	search. Applied Statistics 29(1), 77–84 (join points by a profile
+//	of the sum of squares over a grid; from memory).
 func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	p, reasons, warn, err := newLSQProblem(gs, opt)
 	if err != nil {
@@ -598,11 +630,254 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 	default:
 		return nil, errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
 	}
+	if p.fitBreak {
+		return p.profile(top), nil
+	}
 	out := make([][]float64, len(top))
 	for i, s := range top {
 		out[i] = s.full
 	}
 	return out, nil
+}
+
+// heldFit is a fit with the breakpoints held: its full vector, its sum of
+// squares, and whether an exponent ran past MaxFitExponent.
+type heldFit struct {
+	full []float64
+	ssr  float64
+	run  bool
+}
+
+// better reports a fit preferred to o: one whose exponents stay within
+// MaxFitExponent over one whose do not, else the smaller sum of squares
+// by more than profileRelTol.
+func (a heldFit) better(o heldFit) bool {
+	if a.run != o.run {
+		return !a.run
+	}
+	return a.ssr < o.ssr*(1-profileRelTol)
+}
+
+// breaksOf returns the breakpoints of a full vector.
+func (m *model) breaksOf(full []float64) []float64 {
+	br := make([]float64, m.k()-1)
+	for j := range br {
+		br[j] = full[m.iBreak(j+1)]
+	}
+	return br
+}
+
+// holdBreaks fits the controls with the breakpoints held at br, by
+// Levenberg–Marquardt from each of from (full vectors, moved to br) and,
+// when fresh, from sequential's start for br; ok is false when none gives
+// a rating through every gauging. The fit is the profile's: its search
+// ends at profileLMTol or after profileLMIter steps.
+func (p *lsqProblem) holdBreaks(br []float64, fresh bool, from ...[]float64) (heldFit, bool) {
+	m := p.m
+	hm := &model{kinds: m.kinds, joints: m.joints, base: append([]float64(nil), m.base...)}
+	for j, b := range br {
+		hm.base[m.iBreak(j+1)] = b
+	}
+	for _, i := range m.free {
+		if !(i > m.iB() && i < m.iRemnant()) {
+			hm.free = append(hm.free, i)
+		}
+	}
+	hp := &lsqProblem{m: hm, d: p.d, opt: p.opt, scale: scales(hm, p.d)}
+	starts := from
+	if fresh {
+		if s, err := p.sequential(br); err == nil {
+			starts = append([][]float64{s}, from...)
+		}
+	}
+	best, ok := heldFit{ssr: math.Inf(1), run: true}, false
+	for _, s := range starts {
+		x, f := levenbergTol(hp.residuals, hm.freeOf(s), hp.scale, profileLMTol, profileLMIter)
+		if math.IsInf(f, 1) {
+			continue
+		}
+		full := hm.full(x)
+		h := heldFit{full: full, ssr: f, run: p.runaway(m.freeOf(full)) >= 0}
+		if !ok || h.better(best) {
+			best, ok = h, true
+		}
+	}
+	return best, ok
+}
+
+// breakGrid returns the trial positions of breakpoint j (from 0) with the
+// others at br, ascending: every gauged stage and every midpoint between
+// neighbouring stages at which each of the two controls it divides keeps
+// MinPerSegment gaugings. Between two neighbouring positions the
+// gaugings each control holds do not change, so the sum of squares is
+// smooth there in every parameter.
+func (p *lsqProblem) breakGrid(br []float64, j int) []float64 {
+	h := p.d.h
+	lo, hi := math.Inf(-1), math.Inf(1)
+	if j > 0 {
+		lo = br[j-1]
+	}
+	if j+1 < len(br) {
+		hi = br[j+1]
+	}
+	a := sort.SearchFloat64s(h, lo) + MinPerSegment - 1
+	b := sort.SearchFloat64s(h, hi) - MinPerSegment
+	var grid []float64
+	for i := a; i < b; i++ {
+		if h[i+1] > h[i] {
+			grid = append(grid, 0.5*(h[i]+h[i+1]), h[i+1])
+		}
+	}
+	return grid
+}
+
+// scanned is a held fit at position i of a breakpoint's grid.
+type scanned struct {
+	heldFit
+	i int
+}
+
+// scanBreak profiles breakpoint j (from 0) of cur over its grid
+// (breakGrid) with the other breakpoints held. It fits at every position
+// when the grid has at most coarse of them, else at coarse positions
+// spread evenly over it and then at every position about the
+// profileRefine least local minima of those, out to the coarse positions
+// beside each. A held fit at a coarse position starts from sequential's
+// start and from the fit at the coarse position before (cur at the
+// first); one about a minimum from the fit beside it on the minimum's
+// side. It returns the local minima of the held fits, best first.
+func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
+	br := p.m.breaksOf(cur.full)
+	grid := p.breakGrid(br, j)
+	done := make(map[int]scanned, len(grid))
+	run := func(idx []int, fresh bool, from []float64) {
+		prev := from
+		for _, i := range idx {
+			if _, ok := done[i]; ok {
+				continue
+			}
+			br[j] = grid[i]
+			h, ok := p.holdBreaks(br, fresh, prev)
+			if !ok {
+				prev = from
+				continue
+			}
+			done[i], prev = scanned{h, i}, h.full
+		}
+	}
+	step := 1
+	if len(grid) > coarse {
+		step = (len(grid) + coarse - 1) / coarse
+	}
+	var idx []int
+	for i := 0; i < len(grid); i += step {
+		idx = append(idx, i)
+	}
+	run(idx, true, cur.full)
+	if step > 1 {
+		minima := localMinima(done)
+		if len(minima) > profileRefine {
+			minima = minima[:profileRefine]
+		}
+		for _, m := range minima {
+			var down, up []int
+			for i := m.i - 1; i > m.i-step && i >= 0; i-- {
+				down = append(down, i)
+			}
+			for i := m.i + 1; i < m.i+step && i < len(grid); i++ {
+				up = append(up, i)
+			}
+			run(down, false, m.full)
+			run(up, false, m.full)
+		}
+	}
+	minima := localMinima(done)
+	out := make([]heldFit, len(minima))
+	for i, m := range minima {
+		out[i] = m.heldFit
+	}
+	return out
+}
+
+// profile searches the fitted breakpoints from the starts top (best
+// first, sequential's) by a profile of the sum of squares: a breakpoint
+// moved over its grid with the other breakpoints held and the rest of the
+// parameters fitted at every position (scanBreak), to where the sum is
+// least. The one breakpoint of two controls is profiled once, over its
+// whole range (at most profileGrid positions at a time, refined about the
+// least); those of three or four controls one after another from the
+// best of the starts after a held fit (profileGridMore positions at a
+// time), the rounds repeating from the best so far until none moves a
+// breakpoint (at most profileRounds). It returns the full vectors to
+// polish: up to multiStart of the least local minima of the profile, with
+// distinct breakpoints (for more than two controls, those of the last
+// round and its end), then the starts top themselves, so that the polish
+// also goes from every point it went from without the profile.
+func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
+	k := p.m.k()
+	var ends []heldFit
+	if k == 2 {
+		ends = p.scanBreak(heldFit{full: top[0].full, ssr: top[0].ssr}, 0, profileGrid)
+	} else {
+		var cur heldFit
+		ok := false
+		for _, s := range top {
+			if h, held := p.holdBreaks(p.m.breaksOf(s.full), false, s.full); held && (!ok || h.better(cur)) {
+				cur, ok = h, true
+			}
+		}
+		for round := 0; ok && round < profileRounds; round++ {
+			moved := false
+			ends = ends[:0]
+			for j := 0; j < k-1; j++ {
+				m := p.scanBreak(cur, j, profileGridMore)
+				if len(m) > 0 && m[0].better(cur) {
+					cur, moved = m[0], true
+				}
+				ends = append(ends, m...)
+			}
+			if !moved {
+				break
+			}
+		}
+		if ok {
+			ends = append(ends, cur)
+		}
+		sort.SliceStable(ends, func(a, b int) bool { return ends[a].better(ends[b]) })
+	}
+	out := make([][]float64, 0, multiStart+len(top))
+	for _, e := range ends {
+		if len(out) == multiStart {
+			break
+		}
+		if !slices.ContainsFunc(out, func(o []float64) bool { return slices.Equal(p.m.breaksOf(o), p.m.breaksOf(e.full)) }) {
+			out = append(out, e.full)
+		}
+	}
+	for _, s := range top {
+		out = append(out, s.full)
+	}
+	return out
+}
+
+// localMinima returns the held fits of a scan whose sum of squares is no
+// larger than that of the fits at the positions beside them on the grid
+// (the nearest fitted on each side), best first, ties by position.
+func localMinima(done map[int]scanned) []scanned {
+	idx := make([]int, 0, len(done))
+	for i := range done {
+		idx = append(idx, i)
+	}
+	sort.Ints(idx)
+	var out []scanned
+	for n, i := range idx {
+		h := done[i]
+		if (n == 0 || !done[idx[n-1]].better(h.heldFit)) && (n+1 == len(idx) || !done[idx[n+1]].better(h.heldFit)) {
+			out = append(out, h)
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].better(out[b].heldFit) })
+	return out
 }
 
 // breakSets returns the trial sets of breakpoints: the given ones, or

@@ -84,7 +84,8 @@ func sumSq(r []float64) float64 {
 // each step solves (JᵀJ + λ·diag(JᵀJ))·δ = −Jᵀr, taken when it lowers the
 // sum (λ shrinks tenfold) and refused otherwise (λ grows tenfold). res
 // returns nil where x is not admissible. It returns the best point and its
-// sum of squares.
+// sum of squares. It ends after lmStall steps in a row each lowering the sum
+// by no more than lmRelTol of it (see levenbergTol).
 //
 // References:
 //
@@ -92,6 +93,13 @@ func sumSq(r []float64) float64 {
 //	nonlinear parameters. Journal of the Society for Industrial and
 //	Applied Mathematics 11(2), 431–441.
 func levenberg(res func([]float64) []float64, x0, scale []float64) ([]float64, float64) {
+	return levenbergTol(res, x0, scale, lmRelTol, lmMaxIter)
+}
+
+// levenbergTol is levenberg ending after lmStall steps in a row each
+// lowering the sum of squares by no more than relTol of it, or after
+// maxIter steps.
+func levenbergTol(res func([]float64) []float64, x0, scale []float64, relTol float64, maxIter int) ([]float64, float64) {
 	x := append([]float64(nil), x0...)
 	r := res(x)
 	f := sumSq(r)
@@ -101,7 +109,7 @@ func levenberg(res func([]float64) []float64, x0, scale []float64) ([]float64, f
 	p := len(x)
 	lambda := lmLambda0
 	stall := 0
-	for it := 0; it < lmMaxIter && stall < lmStall; it++ {
+	for it := 0; it < maxIter && stall < lmStall; it++ {
 		jac := jacobian(res, x, scale, r)
 		if jac == nil {
 			break
@@ -137,7 +145,7 @@ func levenberg(res func([]float64) []float64, x0, scale []float64) ([]float64, f
 			}
 			rt := res(xt)
 			if ft := sumSq(rt); ft < f {
-				if f-ft <= lmRelTol*f {
+				if f-ft <= relTol*f {
 					stall++
 				} else {
 					stall = 0
