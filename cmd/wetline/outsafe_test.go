@@ -149,22 +149,34 @@ func TestOutputLinksRefused(t *testing.T) {
 	}
 }
 
-// A template never replaces an existing file (a filled-in field
-// workbook): exit 1, the file kept; a new name is written.
-func TestTemplateNeverReplaces(t *testing.T) {
+// A template and a built shape never replace an existing file (a
+// filled-in field workbook, a field survey): exit 1, the file kept; a new
+// name is written.
+func TestNewFileNeverReplaces(t *testing.T) {
 	t.Parallel()
-	dir := t.TempDir()
-	book := filepath.Join(dir, "tallow-field.xlsx")
-	mustWrite(t, book, "field data\n")
-	_, errs, code := runCLI(t, "template", "-o", book)
-	if code != 1 || !strings.Contains(errs, "remove it or choose another name") {
-		t.Errorf("template over a workbook: exit %d, want 1:\n%s", code, errs)
-	}
-	if b, _ := os.ReadFile(book); string(b) != "field data\n" {
-		t.Errorf("the workbook was replaced: %.40q", b)
-	}
-	if _, errs, code := runCLI(t, "template", "-o", filepath.Join(dir, "new.xlsx")); code != 0 {
-		t.Errorf("a new template: exit %d\n%s", code, errs)
+	for _, tc := range []struct {
+		name, file string
+		args       []string
+	}{
+		{"template", "tallow-field.xlsx", []string{"template"}},
+		{"shape", "survey-keep.csv", []string{"shape", "rectangle:width=3"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			dir := t.TempDir()
+			kept := filepath.Join(dir, tc.file)
+			mustWrite(t, kept, "field data\n")
+			_, errs, code := runCLI(t, append(tc.args, "-o", kept)...)
+			if code != 1 || !strings.Contains(errs, "remove it or choose another name") {
+				t.Errorf("%s over a file: exit %d, want 1:\n%s", tc.name, code, errs)
+			}
+			if b, _ := os.ReadFile(kept); string(b) != "field data\n" {
+				t.Errorf("the file was replaced: %.40q", b)
+			}
+			if _, errs, code := runCLI(t, append(tc.args, "-o", filepath.Join(dir, "new"+filepath.Ext(tc.file)))...); code != 0 {
+				t.Errorf("a new file: exit %d\n%s", code, errs)
+			}
+		})
 	}
 }
 
