@@ -425,6 +425,39 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 // last named column (often an unquoted decimal comma that shifts a row).
 var ErrBeyondHeader = errors.New("a value beyond the header's last column")
 
+// ErrTitleRow is the cause of a first row holding one filled cell above
+// a wider row: a title written above the header (a site's name, merged
+// across the columns in a sheet), read as a header of one column, which
+// would blame the real header below it as values beyond its last column.
+var ErrTitleRow = errors.New("holds one cell and is not a header")
+
+// titleRowError is the ParseError (ErrTitleRow) at the one cell, title,
+// of the row taken for the header (headerRow), when the first row below
+// it (row) holds cells beyond it: no table has a header of one column.
+// It says how to keep the title: as a site key (a key–value row, or a
+// "# site:" line in CSV; see MetaKeys).
+func titleRowError(file, sheet string, headerRow int, title string, row int) *ParseError {
+	shown := echo(strings.TrimSpace(title))
+	keep := fmt.Sprintf("%s,%s (or a line %q)", MetaSite, csvCell(shown), "# "+MetaSite+": "+shown)
+	if sheet != "" {
+		a1, _ := excelize.CoordinatesToCellName(1, headerRow)
+		b1, _ := excelize.CoordinatesToCellName(2, headerRow)
+		keep = fmt.Sprintf("%s in %s, the name in %s, each in a cell of its own", MetaSite, a1, b1)
+	}
+	return &ParseError{File: file, Sheet: sheet, Row: headerRow, Column: 1,
+		Err: fmt.Errorf("a title? row %d (%q) %w (row %d below it holds more): delete it, or write it as a site key row: %s",
+			headerRow, shown, ErrTitleRow, row, keep)}
+}
+
+// csvCell is text written as one CSV field: quoted when it holds a
+// comma, a quote or a line end.
+func csvCell(s string) string {
+	if strings.ContainsAny(s, ",\"\r\n") {
+		return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
+	}
+	return s
+}
+
 // ErrSpilledRow is the cause of a CSV row with more fields than its header
 // line, whose last field is named, even when the extra fields are blank: a
 // value holding an unquoted comma (most often a decimal comma, 524,8) has
@@ -599,8 +632,13 @@ func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, wid
 // after the header's last named column is an error (ErrBeyondHeader) at
 // its cell, blank cells there being dropped, unless the row is a CSV row
 // with more fields than a header line ending in a named column
-// (ErrSpilledRow, at the first field beyond it).
+// (ErrSpilledRow, at the first field beyond it). A first data row wider
+// than a header of one cell makes that header a title (ErrTitleRow, at
+// it).
 func (b *tableBuilder) row(rec []string, row int) error {
+	if len(rec) > len(b.t.Header) && len(b.t.Header) == 1 && len(b.t.Records) == 0 && beyondHeader(rec, 1) >= 0 {
+		return titleRowError(b.t.File, b.t.Sheet, b.t.HeaderRow, b.t.Header[0], row)
+	}
 	if len(rec) > len(b.t.Header) {
 		if pe := extraFieldsError(b.t.File, b.t.Sheet, rec, row, len(b.t.Header), b.fields); pe != nil {
 			return pe
