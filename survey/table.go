@@ -1070,23 +1070,39 @@ func (t *Table) missingColumn(names []string) *ParseError {
 		}
 		want += " (or " + strings.Join(quoted, ", ") + ")"
 	}
-	pe := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0]}
-	for c, h := range t.Header {
-		if name, unit, ok := unitRunOn(h, names); ok {
-			pe.Column = c + 1
-			pe.Err = fmt.Errorf("%w: the header needs a column named %s; %s looks like %s with its unit run on: write %q (a unit goes in brackets after the name)",
-				ErrMissingColumn, want, echo(h), name, name+" ("+unit+")")
-			return pe
-		}
+	if pe := t.unitRunOnError(names, want); pe != nil {
+		return pe
 	}
-	pe.Err = fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))
-	return pe
+	return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
+		Err: fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))}
+}
+
+// unitRunOnError is the ParseError (ErrMissingColumn) of a column known
+// by names that the header lacks, want saying the names it needs, at the
+// first header cell that is one of names with a unit run on or after a
+// comma ("gauge_height_ft", "station, m"), with the form to write
+// ("station (m)"); nil when no cell is so.
+func (t *Table) unitRunOnError(names []string, want string) *ParseError {
+	for c, h := range t.Header {
+		name, unit, ok := unitRunOn(h, names)
+		if !ok {
+			continue
+		}
+		how := "run on"
+		if strings.Contains(h, ",") {
+			how = "after a comma"
+		}
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: names[0],
+			Err: fmt.Errorf("%w: the header needs a column named %s; %q looks like %s with its unit %s: write %q (a unit goes in brackets after the name)",
+				ErrMissingColumn, want, echo(h), name, how, name+" ("+unit+")")}
+	}
+	return nil
 }
 
 // unitRunOn reports a header that is one of names followed, after a space,
-// underscore, hyphen or dot, by a unit of unitWords and nothing else
-// ("gauge_height_ft", "Discharge-cfs"), returning that name and the unit
-// as written.
+// underscore, hyphen, dot or comma, by a unit of unitWords and nothing
+// else ("gauge_height_ft", "Discharge-cfs", "station, m"), returning that
+// name and the unit as written.
 func unitRunOn(h string, names []string) (name, unit string, ok bool) {
 	h = strings.TrimSpace(h)
 	if strings.ContainsAny(h, "([") {
@@ -1095,7 +1111,7 @@ func unitRunOn(h string, names []string) (name, unit string, ok bool) {
 	hn := normName(h)
 	for _, n := range names {
 		nn := normName(n)
-		if len(hn) <= len(nn)+1 || !strings.HasPrefix(hn, nn) || !strings.ContainsRune("_.", rune(hn[len(nn)])) {
+		if len(hn) <= len(nn)+1 || !strings.HasPrefix(hn, nn) || !strings.ContainsRune("_.,", rune(hn[len(nn)])) {
 			continue
 		}
 		rest := strings.TrimSpace(h[len(nn)+1:])
@@ -1440,7 +1456,8 @@ func notSurvey(header []string) string {
 // maxListed bounds how many header names a message lists.
 const maxListed = 12
 
-// headerList lists header names for a message, each echoed short.
+// headerList lists header names for a message, each echoed short and
+// quoted, so that a name holding a comma ("station, m") reads as one.
 func headerList(h []string) string {
 	var parts []string
 	for i, name := range h {
@@ -1448,7 +1465,7 @@ func headerList(h []string) string {
 			parts = append(parts, fmt.Sprintf("and %d more", len(h)-maxListed))
 			break
 		}
-		parts = append(parts, echo(name))
+		parts = append(parts, strconv.Quote(echo(name)))
 	}
 	return strings.Join(parts, ", ")
 }
