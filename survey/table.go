@@ -609,8 +609,10 @@ func (q *quoteFinder) fields(cr *csv.Reader, n int) []bool {
 // with cells beyond the width columns its header names: a value there
 // (ErrBeyondHeader at its cell; in CSV, naming the split number before it
 // when there is one), or, when fields > 0 (a CSV header line of that many
-// fields, its last named), blank fields beyond them (ErrSpilledRow). nil
-// when rec is no wider, or its extra fields are blank and fields is 0.
+// fields, its last named), blank fields beyond them (ErrSpilledRow:
+// naming the number split at a comma that shifted the row, when one is
+// in it; else saying the fields are empty). nil when rec is no wider, or
+// its extra fields are blank and fields is 0.
 func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, width, fields int) *ParseError {
 	if c := beyondHeader(rec, width); c >= 0 {
 		pe := beyondHeaderError(file, sheet, row, c, string(rec[c]))
@@ -621,9 +623,21 @@ func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, wid
 		return pe
 	}
 	if fields > 0 && len(rec) > fields {
-		return &ParseError{File: file, Row: row, Column: fields + 1,
-			Err: fmt.Errorf("%w (%d fields, the header %d): %s quote a value that holds a comma, and write numbers with a decimal point",
-				ErrSpilledRow, len(rec), fields, decimalCommaHint)}
+		pe := &ParseError{File: file, Row: row, Column: fields + 1}
+		if i := lastSplitPair(rec); i >= 0 {
+			pe.Err = fmt.Errorf("%w (%d fields, the header %d): %s %s,%s read as two values? quote a value that holds a comma, and write numbers with a decimal point",
+				ErrSpilledRow, len(rec), fields, decimalCommaHint, strings.TrimSpace(string(rec[i])), strings.TrimSpace(string(rec[i+1])))
+			return pe
+		}
+		// No number split at a comma: the fields beyond are a trailing
+		// run of empty ones (beyondHeader found no value there).
+		extra := len(rec) - fields
+		what := fmt.Sprintf("the %d fields after the header's last are empty: remove them, or name their columns in the header", extra)
+		if extra == 1 {
+			what = "the field after the header's last is empty: remove it, or name its column in the header"
+		}
+		pe.Err = fmt.Errorf("%w (%d fields, the header %d): %s", ErrSpilledRow, len(rec), fields, what)
+		return pe
 	}
 	return nil
 }
