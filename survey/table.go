@@ -449,6 +449,17 @@ func titleRowError(file, sheet string, headerRow int, title string, row int) *Pa
 			headerRow, shown, ErrTitleRow, row, keep)}
 }
 
+// headerLike reports a row that reads as a header: no filled cell of it
+// is a number (a data row below a header of one column holds some).
+func headerLike(rec []string) bool {
+	for _, c := range rec {
+		if _, err := strconv.ParseFloat(strings.TrimSpace(c), 64); err == nil {
+			return false
+		}
+	}
+	return true
+}
+
 // csvCell is text written as one CSV field: quoted when it holds a
 // comma, a quote or a line end.
 func csvCell(s string) string {
@@ -647,10 +658,10 @@ func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, wid
 // its cell, blank cells there being dropped, unless the row is a CSV row
 // with more fields than a header line ending in a named column
 // (ErrSpilledRow, at the first field beyond it). A first data row wider
-// than a header of one cell makes that header a title (ErrTitleRow, at
-// it).
+// than a header of one cell, and reading as a header itself (headerLike),
+// makes that header a title (ErrTitleRow, at it).
 func (b *tableBuilder) row(rec []string, row int) error {
-	if len(rec) > len(b.t.Header) && len(b.t.Header) == 1 && len(b.t.Records) == 0 && beyondHeader(rec, 1) >= 0 {
+	if len(rec) > len(b.t.Header) && len(b.t.Header) == 1 && len(b.t.Records) == 0 && beyondHeader(rec, 1) >= 0 && headerLike(rec) {
 		return titleRowError(b.t.File, b.t.Sheet, b.t.HeaderRow, b.t.Header[0], row)
 	}
 	if len(rec) > len(b.t.Header) {

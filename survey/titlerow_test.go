@@ -77,6 +77,11 @@ func TestTitleRowAboveHeader(t *testing.T) {
 			t.Errorf("%s: %v, blames the header as beyond the header's last column", tc.name, err)
 		}
 	}
+	// A header of one column above data is no title: the data's values
+	// beyond it are refused as such.
+	if _, err := ReadSection(csvFile("short.csv", "station\n0,4.2\n3,3.1\n"), "", SectionOptions{}); !errors.Is(err, ErrBeyondHeader) {
+		t.Errorf("a header of one column: %v, want ErrBeyondHeader", err)
+	}
 	// Written as a site key, the title is the site's name.
 	sv, err := ReadSection(csvFile("keyed.csv", "site,Wren Brook at Kiln Lane XS-3\n"+survey), "", SectionOptions{})
 	if err != nil || sv.Site.Name != "Wren Brook at Kiln Lane XS-3" {
