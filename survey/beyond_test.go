@@ -111,3 +111,32 @@ func TestDecimalCommaSpill(t *testing.T) {
 		}
 	}
 }
+
+// A CSV row whose fields beyond a header line ending in a named column
+// are all empty, with no number before them split at a comma, is refused
+// saying so (remove them, or name their columns), not blamed on a
+// decimal comma; one whose row holds a split number still is. The data
+// are invented.
+func TestTrailingEmptyFields(t *testing.T) {
+	t.Parallel()
+	table, stages := csvTableErr, csvStagesErr
+	for _, tc := range []struct {
+		name, csv string
+		read      func(string) error
+		at, not   string
+	}{
+		{"survey", "station,elevation,n,mark\n0,12.40,0.05,,,\n3,11.80,0.05,lb,,\n", table,
+			"t.csv:2:5: more fields than the header line (6 fields, the header 4): the 2 fields after the header's last are empty: remove them, or name their columns in the header", "decimal comma"},
+		{"one field", "station,elevation,n,mark\n0,12.40,0.05,lb,\n", table,
+			"t.csv:2:5: more fields than the header line (5 fields, the header 4): the field after the header's last is empty: remove it, or name its column in the header", "decimal comma"},
+		{"a split number", "station,elevation,n,mark\n0,731,4,0.04,\n", table,
+			"t.csv:2:5: more fields than the header line (5 fields, the header 4): an unquoted decimal comma? 731,4 read as two values?", "are empty"},
+		{"stage record", "time,stage\n2024-01-01T00:00,1.02,,\n", stages,
+			"t.csv:2:3: more fields than the header line (4 fields, the header 2): the 2 fields after the header's last are empty", "decimal comma"},
+	} {
+		err := tc.read(tc.csv)
+		if !errors.Is(err, ErrSpilledRow) || !strings.Contains(err.Error(), tc.at) || strings.Contains(err.Error(), tc.not) {
+			t.Errorf("%s: %v, want ErrSpilledRow saying %q, not %q", tc.name, err, tc.at, tc.not)
+		}
+	}
+}

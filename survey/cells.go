@@ -325,7 +325,7 @@ var ErrNotWorkbook = errors.New("not a workbook (an .xlsx file is a zip archive)
 
 // zipSignature refuses data that does not start as a zip archive does
 // (zipMagic), saying when it looks like text that it may be a CSV file
-// renamed.
+// renamed, and naming an Excel 97–2003 workbook (compoundMagic).
 func zipSignature(r io.ReaderAt, size int64) error {
 	head := make([]byte, min(size, 4096))
 	n, err := r.ReadAt(head, 0)
@@ -338,6 +338,9 @@ func zipSignature(r io.ReaderAt, size int64) error {
 			return ErrOpenDocument
 		}
 		return nil
+	}
+	if bytes.HasPrefix(head, compoundMagic) {
+		return ErrLegacyWorkbook
 	}
 	if textLike(head) {
 		return fmt.Errorf("%w; it holds text: it may be a CSV file renamed .xlsx, so give it its .csv name", ErrNotWorkbook)

@@ -154,9 +154,10 @@ func notRead(warnings []string) []string {
 	return out
 }
 
-// TestMissingColumnSuggests: a missing column's error names its aliases,
-// and a header that is one of its names with a unit run on is pointed at,
-// with the bracketed form to write.
+// TestMissingColumnSuggests: a missing column's error names its aliases
+// and quotes each name found (a name may hold a comma), and a header that
+// is one of its names with a unit run on, or after a comma, is pointed
+// at, with the bracketed form to write.
 func TestMissingColumnSuggests(t *testing.T) {
 	for _, tc := range []struct {
 		name, csv string
@@ -164,18 +165,56 @@ func TestMissingColumnSuggests(t *testing.T) {
 		column    int
 	}{
 		{"unit run on with an underscore", "time,gauge_height_ft,discharge\n2024-01-01,1,2\n",
-			[]string{`"stage" (or "gauge_height")`, `gauge_height_ft looks like gauge_height with its unit run on: write "gauge_height (ft)"`}, 2},
+			[]string{`"stage" (or "gauge_height")`, `"gauge_height_ft" looks like gauge_height with its unit run on: write "gauge_height (ft)"`}, 2},
 		{"unit run on with a space", "time,Stage m,discharge\n2024-01-01,1,2\n",
-			[]string{`Stage m looks like stage with its unit run on: write "stage (m)"`}, 2},
+			[]string{`"Stage m" looks like stage with its unit run on: write "stage (m)"`}, 2},
+		{"unit after a comma", "time,\"stage, m\",discharge\n2024-01-01,1,2\n",
+			[]string{`"stage, m" looks like stage with its unit after a comma: write "stage (m)"`}, 2},
 		{"discharge in cfs", "time,stage,discharge_cfs\n2024-01-01,1,2\n",
 			[]string{`write "discharge (cfs)"`}, 3},
 		{"another name", "time,level,discharge\n2024-01-01,1,2\n",
-			[]string{`needs a column named "stage" (or "gauge_height") (found: time, level, discharge)`}, 0},
+			[]string{`needs a column named "stage" (or "gauge_height") (found: "time", "level", "discharge")`}, 0},
 		{"a word that is no unit", "time,stage_gauge,discharge\n2024-01-01,1,2\n",
-			[]string{`(found: time, stage_gauge, discharge)`}, 0},
+			[]string{`(found: "time", "stage_gauge", "discharge")`}, 0},
+		{"names holding commas", "\"time, local\",level,discharge\n2024-01-01,1,2\n",
+			[]string{`(found: "time, local", "level", "discharge")`}, 0},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := ParseGaugings(strings.NewReader(tc.csv), "g.csv")
+			var pe *ParseError
+			if !errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
+				t.Fatalf("error %v, want ErrMissingColumn", err)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(err.Error(), w) {
+					t.Errorf("error %q lacks %q", err, w)
+				}
+			}
+			if pe.Column != tc.column {
+				t.Errorf("column %d, want %d", pe.Column, tc.column)
+			}
+		})
+	}
+}
+
+// A survey whose headers give their units after a comma ("station, m")
+// is pointed at the bracketed form, and the names found are quoted, each
+// whole.
+func TestSurveyUnitAfterComma(t *testing.T) {
+	for _, tc := range []struct {
+		name, csv string
+		want      []string
+		column    int
+	}{
+		{"station and elevation", "\"station, m\",\"elevation, m\",n\n0,2,0.04\n5,0,0.04\n10,2,0.04\n",
+			[]string{`"station, m" looks like station with its unit after a comma: write "station (m)"`}, 1},
+		{"elevation only", "station,\"elevation, ft\"\n0,2\n5,0\n10,2\n",
+			[]string{`"elevation, ft" looks like elevation with its unit after a comma: write "elevation (ft)"`}, 2},
+		{"no station", "\"chainage, m\",elevation\n0,2\n5,0\n10,2\n",
+			[]string{`(found: "chainage, m", "elevation")`}, 0},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := ParseSection(strings.NewReader(tc.csv), "xs.csv", SectionOptions{})
 			var pe *ParseError
 			if !errors.Is(err, ErrMissingColumn) || !errors.As(err, &pe) {
 				t.Fatalf("error %v, want ErrMissingColumn", err)

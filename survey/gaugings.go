@@ -146,7 +146,8 @@ func ParseGaugings(r io.Reader, name string) (Gaugings, error) {
 // offset in a table whose first time has none, or the other way round
 // (ErrMixedOffsets). A time-zone column (TimeZoneColumns) gives each
 // row's time its offset (see zonedTime: ErrZone, ErrZoneBlank,
-// ErrZoneDisagrees at the zone cell). A missing column is the error of
+// ErrZoneDisagrees at the zone cell). A first time of day alone beside a
+// date column is refused once, at it (ErrDateApart). A missing column is the error of
 // Table.Require, a table without rows ErrEmpty. A quality, note or
 // exclude column holding a bare digit string after a whole gauge height
 // on most rows is refused (ErrSplitNumber), after a whole discharge or
@@ -174,6 +175,9 @@ func gaugingsFromTable(t *Table, off int64) (Gaugings, error) {
 	}
 	gs.Warnings = append(gs.Warnings, split...)
 	gs.Site = t.Site()
+	if pe := t.dateApart(cols.time); pe != nil {
+		return gs, pe
+	}
 	rd := &gaugingReader{t: t, cols: cols, off: off, seen: map[int64]int{}}
 	for _, rec := range t.Records {
 		if g, ok := rd.row(rec); ok {

@@ -169,6 +169,7 @@ func TestReadGaugingsWorkbook(t *testing.T) {
 
 func FuzzParseGaugings(f *testing.F) {
 	f.Add("time,stage,discharge\n2024-01-01,1,3\n")
+	f.Add("date,time,stage,discharge\n2024-03-04,09:15,9.9,0.14\n2024-04-11,13:40,10.1,0.7\n")
 	f.Add("time,gauge_height,discharge,quality,note\n2024-01-01T10:00:00Z,1.5,3,poor,x\n2024-01-01T10:00:00+01:00,1,,g,\n")
 	f.Add("time,stage,discharge,uncertainty,exclude\n2024-01-01,1,3,7.5,\n2024-01-02,1.2,4,,moss\n2024-01-03,1.4,5,1e2, \n2024-01-04,1.5,6,NaN,x\n")
 	f.Add("site,Kowhai Stream\nsite id,KW-3\nno.,time,stage,discharge\n#1,2024-01-01T09:00,1,4\n#2,2024-01-02T09:00,1.2,5.8\n# checked, \"JK, PM\"\n")

@@ -330,3 +330,25 @@ func TestOpenDocumentRefused(t *testing.T) {
 		}
 	}
 }
+
+// An Excel 97–2003 workbook (.xls), an OLE2 compound file, is named as
+// one whatever its name says, not called UTF-16 text or a damaged zip:
+// its first eight bytes are the compound file's signature (Microsoft,
+// [MS-CFB] Compound File Binary File Format, section 2.2).
+func TestLegacyWorkbookRefused(t *testing.T) {
+	head := make([]byte, 512)
+	copy(head, []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1})
+	dir := t.TempDir()
+	for _, name := range []string{"xs.xls", "xs.csv", "xs.xlsx"} {
+		p := filepath.Join(dir, name)
+		if err := os.WriteFile(p, head, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := ReadTable(p, ""); !errors.Is(err, ErrLegacyWorkbook) {
+			t.Errorf("%s: %v, want ErrLegacyWorkbook", name, err)
+		}
+	}
+	if _, err := ParseStageRecord(bytes.NewReader(head), "record.csv", StageRecordOptions{}); !errors.Is(err, ErrLegacyWorkbook) {
+		t.Errorf("a stage record: %v, want ErrLegacyWorkbook", err)
+	}
+}

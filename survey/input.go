@@ -70,6 +70,7 @@ var (
 	ErrStdinTwice      = errors.New("standard input (-) can be read only once")
 	ErrJSONInput       = errors.New("is JSON, not a table: give the CSV table (or the workbook) the report was written beside")
 	ErrOpenDocument    = errors.New("is an OpenDocument spreadsheet (.ods), which is not read: save it as an Excel workbook (.xlsx) or as CSV")
+	ErrLegacyWorkbook  = errors.New("is an Excel 97–2003 workbook (.xls), which is not read: save it as an Excel workbook (.xlsx) or as CSV")
 	ErrLongLine        = errors.New("a line longer than the limit")
 )
 
@@ -305,6 +306,11 @@ func readInput(path string) ([]byte, error) {
 // zipMagic starts every zip file, and so every xlsx workbook.
 var zipMagic = []byte("PK\x03\x04")
 
+// compoundMagic starts every OLE2 compound file, and so every Excel
+// 97–2003 workbook (.xls) (Microsoft, [MS-CFB] Compound File Binary File
+// Format, section 2.2, the header signature).
+var compoundMagic = []byte{0xD0, 0xCF, 0x11, 0xE0, 0xA1, 0xB1, 0x1A, 0xE1}
+
 // sniffBytes is how much of the head of a file sniffKind and tabbedHead
 // look at.
 const sniffBytes = 4096
@@ -328,8 +334,9 @@ func sniffText(data []byte, name string) error {
 }
 
 // sniffKind refuses a file whose head (its first sniffBytes, after a
-// byte-order mark) shows it is no text table: a workbook, UTF-16 text,
-// binary data (at the line and field of its first NUL byte) or JSON.
+// byte-order mark) shows it is no text table: a workbook (an Excel
+// 97–2003 one among them), UTF-16 text, binary data (at the line and
+// field of its first NUL byte) or JSON.
 func sniffKind(head []byte, name string) error {
 	fail := func(err error) error { return &ParseError{File: name, Err: err} }
 	switch {
@@ -337,6 +344,8 @@ func sniffKind(head []byte, name string) error {
 		return fail(ErrOpenDocument)
 	case bytes.HasPrefix(head, zipMagic):
 		return fail(ErrWorkbookNamed)
+	case bytes.HasPrefix(head, compoundMagic):
+		return fail(ErrLegacyWorkbook)
 	case bytes.HasPrefix(head, []byte{0xFF, 0xFE}), bytes.HasPrefix(head, []byte{0xFE, 0xFF}):
 		return fail(ErrUTF16)
 	case bytes.IndexByte(head, 0) >= 0:

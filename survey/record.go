@@ -129,7 +129,8 @@ func ReadStageRecord(path string, opt StageRecordOptions) (*StageRecord, error) 
 // ±MaxElevation (ErrImplausible), a time that repeats or goes back (naming
 // the row before), a value after the header's last named column
 // (ErrBeyondHeader), a CSV row with more fields than a header line ending
-// in a named column (ErrSpilledRow). A quality column right after the
+// in a named column (ErrSpilledRow); a first time of day alone beside a
+// date column, said once (ErrDateApart). A quality column right after the
 // stage holding a bare digit string after a whole stage on most rows (1,05
 // split by an unquoted decimal comma?) is warned of (see
 // stageBuilder.splitWarning). A header naming a column twice is refused
@@ -258,6 +259,11 @@ type stageBuilder struct {
 	// quoted reports that a field of the row being read was quoted in
 	// CSV (nil in a sheet).
 	quoted func(int) bool
+	// cd is the date column, -1 for none (see dateColumn); apart tells
+	// that the first time, timeSeen, was a time of day alone beside it
+	// (ErrDateApart), said once: the rows after it are not read.
+	cd              int
+	timeSeen, apart bool
 }
 
 func newStageBuilder(file, sheet string, opt StageRecordOptions, inWorkbook, date1904 bool) (*stageBuilder, error) {
@@ -287,6 +293,7 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	b.cq = t.Column(ColRecordQuality)
+	b.cd = dateColumn(h, b.ct)
 	if b.cz, err = zoneColumn(t); err != nil {
 		return err
 	}
@@ -373,6 +380,9 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 			Err: fmt.Errorf("the stage record %w of %d readings: raise it with %s=ROWS", ErrTooManyRows, b.maxRows, EnvMaxReadings)})
 		return
 	}
+	if b.apart {
+		return
+	}
 	if pe := extraFieldsError(b.file, b.sheet, fields, row, b.width, b.headerFields()); pe != nil {
 		b.errs.add(pe)
 		return
@@ -388,6 +398,14 @@ func (b *stageBuilder) row(fields [][]byte, row int) {
 	if len(ts) == 0 {
 		b.fail(row, b.ct, nil, ErrBlankTime)
 		return
+	}
+	if !b.timeSeen {
+		b.timeSeen = true
+		if err := dateApartError(b.header, b.cd, string(ts), string(cell(b.cd))); err != nil {
+			b.fail(row, b.ct, ts, err)
+			b.apart = true
+			return
+		}
 	}
 	var sec, zone int64
 	var zoned bool

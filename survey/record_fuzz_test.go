@@ -34,6 +34,7 @@ func checkPositioned(t *testing.T, err error, file string) {
 // errors, never a panic. Seeds in testdata/fuzz/FuzzParseStageRecord.
 func FuzzParseStageRecord(f *testing.F) {
 	f.Add("time,stage\n2024-05-01T00:00,1.2\n2024-05-01T00:15,1.3\n", int8(0))
+	f.Add("date,time,stage\n2024-05-01,00:00,1.2\n2024-05-01,00:15,1.3\n", int8(0))
 	f.Add("time,stage (ft)\n2024-05-01T00:00,1.2\n", int8(0))
 	f.Add("time,gauge height [m],quality\n2024-05-01T00:00,1.2,good\n", int8(3))
 	f.Add("time,stage,stage\n2024-05-01T00:00,1.2,1.3\n", int8(0))

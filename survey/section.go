@@ -401,9 +401,12 @@ func newSectionReader(t *Table) (*sectionReader, error) {
 				Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey: name this column %q (or %q) if it holds eastings",
 					ErrMissingColumn, ColStation, ColEasting, ColNorthing, ColEasting, "x")}
 		}
+		want := fmt.Sprintf("%q, or %q and %q for a coordinate survey", ColStation, ColEasting, ColNorthing)
+		if pe := t.unitRunOnError([]string{ColStation}, want); pe != nil {
+			return r, pe
+		}
 		return r, &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: ColStation,
-			Err: fmt.Errorf("%w: the header needs a column named %q, or %q and %q for a coordinate survey (found: %s)",
-				ErrMissingColumn, ColStation, ColEasting, ColNorthing, headerList(t.Header))}
+			Err: fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))}
 	}
 	if r.ce, err = t.Require(elevationNames()...); err != nil {
 		return r, err

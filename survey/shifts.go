@@ -90,7 +90,8 @@ func ParseShiftDiagrams(r io.Reader, name string, opt ShiftTableOptions) (ShiftD
 // whose offset, or lack of one, differs from the first time's
 // ErrMixedOffsets; a time-zone column gives each row's time its offset, see
 // zonedTime), and so is the row that makes a diagram fall faster
-// than the stage rises (gauged.ErrShiftSlope). Units written in the stage,
+// than the stage rises (gauged.ErrShiftSlope). A first time of day alone
+// beside a date column is refused once, at it (ErrDateApart). Units written in the stage,
 // shift and taper headers are reported in Units; an unknown unit
 // (ErrUnknownUnit) or units of two systems (ErrMixedUnits) is an error
 // naming the column.
@@ -118,6 +119,9 @@ func ShiftDiagramsFromTable(t *Table, opt ShiftTableOptions) (ShiftDiagrams, err
 	}
 	if err := t.unsavedIn(slices.Collect(maps.Values(cols))...); err != nil {
 		return out, err
+	}
+	if pe := t.dateApart(cols[ColShiftTime]); pe != nil {
+		return out, pe
 	}
 	var errs errorList
 	var rows []gauged.ShiftRow

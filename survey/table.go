@@ -425,6 +425,50 @@ func duplicateColumn(file, sheet string, h []string, row int) error {
 // last named column (often an unquoted decimal comma that shifts a row).
 var ErrBeyondHeader = errors.New("a value beyond the header's last column")
 
+// ErrTitleRow is the cause of a first row holding one filled cell above
+// a wider row: a title written above the header (a site's name, merged
+// across the columns in a sheet), read as a header of one column, which
+// would blame the real header below it as values beyond its last column.
+var ErrTitleRow = errors.New("holds one cell and is not a header")
+
+// titleRowError is the ParseError (ErrTitleRow) at the one cell, title,
+// of the row taken for the header (headerRow), when the first row below
+// it (row) holds cells beyond it: no table has a header of one column.
+// It says how to keep the title: as a site key (a key–value row, or a
+// "# site:" line in CSV; see MetaKeys).
+func titleRowError(file, sheet string, headerRow int, title string, row int) *ParseError {
+	shown := echo(strings.TrimSpace(title))
+	keep := fmt.Sprintf("%s,%s (or a line %q)", MetaSite, csvCell(shown), "# "+MetaSite+": "+shown)
+	if sheet != "" {
+		a1, _ := excelize.CoordinatesToCellName(1, headerRow)
+		b1, _ := excelize.CoordinatesToCellName(2, headerRow)
+		keep = fmt.Sprintf("%s in %s, the name in %s, each in a cell of its own", MetaSite, a1, b1)
+	}
+	return &ParseError{File: file, Sheet: sheet, Row: headerRow, Column: 1,
+		Err: fmt.Errorf("a title? row %d (%q) %w (row %d below it holds more): delete it, or write it as a site key row: %s",
+			headerRow, shown, ErrTitleRow, row, keep)}
+}
+
+// headerLike reports a row that reads as a header: no filled cell of it
+// is a number (a data row below a header of one column holds some).
+func headerLike(rec []string) bool {
+	for _, c := range rec {
+		if _, err := strconv.ParseFloat(strings.TrimSpace(c), 64); err == nil {
+			return false
+		}
+	}
+	return true
+}
+
+// csvCell is text written as one CSV field: quoted when it holds a
+// comma, a quote or a line end.
+func csvCell(s string) string {
+	if strings.ContainsAny(s, ",\"\r\n") {
+		return `"` + strings.ReplaceAll(s, `"`, `""`) + `"`
+	}
+	return s
+}
+
 // ErrSpilledRow is the cause of a CSV row with more fields than its header
 // line, whose last field is named, even when the extra fields are blank: a
 // value holding an unquoted comma (most often a decimal comma, 524,8) has
@@ -576,8 +620,10 @@ func (q *quoteFinder) fields(cr *csv.Reader, n int) []bool {
 // with cells beyond the width columns its header names: a value there
 // (ErrBeyondHeader at its cell; in CSV, naming the split number before it
 // when there is one), or, when fields > 0 (a CSV header line of that many
-// fields, its last named), blank fields beyond them (ErrSpilledRow). nil
-// when rec is no wider, or its extra fields are blank and fields is 0.
+// fields, its last named), blank fields beyond them (ErrSpilledRow:
+// naming the number split at a comma that shifted the row, when one is
+// in it; else saying the fields are empty). nil when rec is no wider, or
+// its extra fields are blank and fields is 0.
 func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, width, fields int) *ParseError {
 	if c := beyondHeader(rec, width); c >= 0 {
 		pe := beyondHeaderError(file, sheet, row, c, string(rec[c]))
@@ -588,9 +634,21 @@ func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, wid
 		return pe
 	}
 	if fields > 0 && len(rec) > fields {
-		return &ParseError{File: file, Row: row, Column: fields + 1,
-			Err: fmt.Errorf("%w (%d fields, the header %d): %s quote a value that holds a comma, and write numbers with a decimal point",
-				ErrSpilledRow, len(rec), fields, decimalCommaHint)}
+		pe := &ParseError{File: file, Row: row, Column: fields + 1}
+		if i := lastSplitPair(rec); i >= 0 {
+			pe.Err = fmt.Errorf("%w (%d fields, the header %d): %s %s,%s read as two values? quote a value that holds a comma, and write numbers with a decimal point",
+				ErrSpilledRow, len(rec), fields, decimalCommaHint, strings.TrimSpace(string(rec[i])), strings.TrimSpace(string(rec[i+1])))
+			return pe
+		}
+		// No number split at a comma: the fields beyond are a trailing
+		// run of empty ones (beyondHeader found no value there).
+		extra := len(rec) - fields
+		what := fmt.Sprintf("the %d fields after the header's last are empty: remove them, or name their columns in the header", extra)
+		if extra == 1 {
+			what = "the field after the header's last is empty: remove it, or name its column in the header"
+		}
+		pe.Err = fmt.Errorf("%w (%d fields, the header %d): %s", ErrSpilledRow, len(rec), fields, what)
+		return pe
 	}
 	return nil
 }
@@ -599,8 +657,13 @@ func extraFieldsError[S ~string | ~[]byte](file, sheet string, rec []S, row, wid
 // after the header's last named column is an error (ErrBeyondHeader) at
 // its cell, blank cells there being dropped, unless the row is a CSV row
 // with more fields than a header line ending in a named column
-// (ErrSpilledRow, at the first field beyond it).
+// (ErrSpilledRow, at the first field beyond it). A first data row wider
+// than a header of one cell, and reading as a header itself (headerLike),
+// makes that header a title (ErrTitleRow, at it).
 func (b *tableBuilder) row(rec []string, row int) error {
+	if len(rec) > len(b.t.Header) && len(b.t.Header) == 1 && len(b.t.Records) == 0 && beyondHeader(rec, 1) >= 0 && headerLike(rec) {
+		return titleRowError(b.t.File, b.t.Sheet, b.t.HeaderRow, b.t.Header[0], row)
+	}
 	if len(rec) > len(b.t.Header) {
 		if pe := extraFieldsError(b.t.File, b.t.Sheet, rec, row, len(b.t.Header), b.fields); pe != nil {
 			return pe
@@ -1032,23 +1095,39 @@ func (t *Table) missingColumn(names []string) *ParseError {
 		}
 		want += " (or " + strings.Join(quoted, ", ") + ")"
 	}
-	pe := &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0]}
-	for c, h := range t.Header {
-		if name, unit, ok := unitRunOn(h, names); ok {
-			pe.Column = c + 1
-			pe.Err = fmt.Errorf("%w: the header needs a column named %s; %s looks like %s with its unit run on: write %q (a unit goes in brackets after the name)",
-				ErrMissingColumn, want, echo(h), name, name+" ("+unit+")")
-			return pe
-		}
+	if pe := t.unitRunOnError(names, want); pe != nil {
+		return pe
 	}
-	pe.Err = fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))
-	return pe
+	return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Name: names[0],
+		Err: fmt.Errorf("%w: the header needs a column named %s (found: %s)", ErrMissingColumn, want, headerList(t.Header))}
+}
+
+// unitRunOnError is the ParseError (ErrMissingColumn) of a column known
+// by names that the header lacks, want saying the names it needs, at the
+// first header cell that is one of names with a unit run on or after a
+// comma ("gauge_height_ft", "station, m"), with the form to write
+// ("station (m)"); nil when no cell is so.
+func (t *Table) unitRunOnError(names []string, want string) *ParseError {
+	for c, h := range t.Header {
+		name, unit, ok := unitRunOn(h, names)
+		if !ok {
+			continue
+		}
+		how := "run on"
+		if strings.Contains(h, ",") {
+			how = "after a comma"
+		}
+		return &ParseError{File: t.File, Sheet: t.Sheet, Row: t.HeaderRow, Column: c + 1, Name: names[0],
+			Err: fmt.Errorf("%w: the header needs a column named %s; %q looks like %s with its unit %s: write %q (a unit goes in brackets after the name)",
+				ErrMissingColumn, want, echo(h), name, how, name+" ("+unit+")")}
+	}
+	return nil
 }
 
 // unitRunOn reports a header that is one of names followed, after a space,
-// underscore, hyphen or dot, by a unit of unitWords and nothing else
-// ("gauge_height_ft", "Discharge-cfs"), returning that name and the unit
-// as written.
+// underscore, hyphen, dot or comma, by a unit of unitWords and nothing
+// else ("gauge_height_ft", "Discharge-cfs", "station, m"), returning that
+// name and the unit as written.
 func unitRunOn(h string, names []string) (name, unit string, ok bool) {
 	h = strings.TrimSpace(h)
 	if strings.ContainsAny(h, "([") {
@@ -1057,7 +1136,7 @@ func unitRunOn(h string, names []string) (name, unit string, ok bool) {
 	hn := normName(h)
 	for _, n := range names {
 		nn := normName(n)
-		if len(hn) <= len(nn)+1 || !strings.HasPrefix(hn, nn) || !strings.ContainsRune("_.", rune(hn[len(nn)])) {
+		if len(hn) <= len(nn)+1 || !strings.HasPrefix(hn, nn) || !strings.ContainsRune("_.,", rune(hn[len(nn)])) {
 			continue
 		}
 		rest := strings.TrimSpace(h[len(nn)+1:])
@@ -1402,7 +1481,8 @@ func notSurvey(header []string) string {
 // maxListed bounds how many header names a message lists.
 const maxListed = 12
 
-// headerList lists header names for a message, each echoed short.
+// headerList lists header names for a message, each echoed short and
+// quoted, so that a name holding a comma ("station, m") reads as one.
 func headerList(h []string) string {
 	var parts []string
 	for i, name := range h {
@@ -1410,7 +1490,7 @@ func headerList(h []string) string {
 			parts = append(parts, fmt.Sprintf("and %d more", len(h)-maxListed))
 			break
 		}
-		parts = append(parts, echo(name))
+		parts = append(parts, strconv.Quote(echo(name)))
 	}
 	return strings.Join(parts, ", ")
 }

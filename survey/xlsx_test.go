@@ -81,7 +81,8 @@ func TestReadSectionWorkbookErrors(t *testing.T) {
 
 // A file named .xlsx that is not a zip archive is said to be no workbook,
 // and one holding text to be perhaps a CSV file renamed; a zip archive
-// that is no workbook is still refused as a damaged zip.
+// that is no workbook is still refused as a damaged zip. (An Excel
+// 97–2003 workbook is named as one: TestLegacyWorkbookRefused.)
 func TestWorkbookNotZip(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
@@ -93,7 +94,7 @@ func TestWorkbookNotZip(t *testing.T) {
 	}{
 		{"renamed.xlsx", []byte("station,elevation\n0,1\n1,0\n"), ErrNotWorkbook, "renamed.xlsx: not a workbook (an .xlsx file is a zip archive); it holds text: it may be a CSV file renamed .xlsx"},
 		{"latin1.xlsx", []byte("station,elevation,note\n0,1,caf\xe9\n"), ErrNotWorkbook, "it may be a CSV file renamed"},
-		{"binary.xlsx", []byte("\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1\x00\x00"), ErrNotWorkbook, "binary.xlsx: not a workbook (an .xlsx file is a zip archive)"},
+		{"binary.xlsx", []byte("\x7fELF\x02\x01\x01\x00\x00\x00"), ErrNotWorkbook, "binary.xlsx: not a workbook (an .xlsx file is a zip archive)"},
 		{"empty.xlsx", nil, ErrNotWorkbook, "empty.xlsx: not a workbook"},
 		{"cut.xlsx", []byte("PK\x03\x04\x14\x00"), ErrWorkbookZip, "damaged or forged zip"},
 	} {

@@ -137,11 +137,11 @@ func writeBatch(ctx context.Context, e *env, f *rateFlags, format string, jobs [
 		st.sum, st.put, st.done, err = longToStdout(ctx, e.stdout, jobs, opt)
 	default:
 		st.where = "one table on " + f.output
-		err = e.files.Write(f.output, func(w io.Writer) error {
+		err = stdoutHint(e.files.Write(f.output, func(w io.Writer) error {
 			var werr error
 			st.sum, werr = batch.Long(ctx, w, jobs, opt)
 			return werr
-		})
+		}))
 	}
 	return st, err
 }

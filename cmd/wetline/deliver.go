@@ -2,6 +2,7 @@ package main
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"io"
 	"path/filepath"
@@ -16,10 +17,13 @@ import (
 // checked before the first is written; files reach their places only
 // when all are written.
 type delivery struct {
-	output string   // report file; "" or "-" for standard output
-	fresh  bool     // the report file must be new: an existing file is refused
-	inputs []string // files read, never written over
-	write  func(io.Writer) error
+	output string // report file; "" or "-" for standard output
+	fresh  bool   // the report file must be new: an existing file is refused
+	// fileOnly: the report goes to a file, never to standard output (a
+	// template), so no refusal suggests -o -.
+	fileOnly bool
+	inputs   []string // files read, never written over
+	write    func(io.Writer) error
 	// inline reports that the report carries its warnings and the caution
 	// itself (text and JSON); otherwise, on standard output, they go to
 	// standard error after it.
@@ -68,7 +72,7 @@ func (e *env) deliver(d delivery) error {
 			check = f.CheckNew
 		}
 		if err := check(d.output); err != nil {
-			return err
+			return d.stdoutHint(err)
 		}
 	}
 	for _, p := range figPaths {
@@ -82,7 +86,7 @@ func (e *env) deliver(d delivery) error {
 			write = f.WriteNew
 		}
 		if err := write(d.output, d.write); err != nil {
-			return err
+			return d.stdoutHint(err)
 		}
 	}
 	for i, p := range figPaths {
@@ -115,6 +119,29 @@ func (e *env) deliver(d delivery) error {
 		return d.summary(e.stderr)
 	}
 	return nil
+}
+
+// stdoutHint adds to the refusal of the report's path as a stream or as
+// no regular file (a pipe, a device: output.ErrStream,
+// output.ErrNotRegular) the way to what was most likely meant, standard
+// output, when the report can go there. A figure's path under --plots,
+// or a template's, is refused without it.
+func (d delivery) stdoutHint(err error) error {
+	if d.fileOnly {
+		return err
+	}
+	return stdoutHint(err)
+}
+
+// stdoutHint adds "write to standard output with -o - instead" to the
+// refusal of an -o path that names a stream or no regular file; other
+// errors are returned as they are. Only a report that may go to
+// standard output is refused so.
+func stdoutHint(err error) error {
+	if errors.Is(err, output.ErrStream) || errors.Is(err, output.ErrNotRegular) {
+		return fmt.Errorf("%w (write to standard output with -o - instead)", err)
+	}
+	return err
 }
 
 // listFigures names each figure written, with its caption.

@@ -3,7 +3,9 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"runtime"
 	"strings"
+	"syscall"
 	"testing"
 )
 
@@ -149,22 +151,34 @@ func TestOutputLinksRefused(t *testing.T) {
 	}
 }
 
-// A template never replaces an existing file (a filled-in field
-// workbook): exit 1, the file kept; a new name is written.
-func TestTemplateNeverReplaces(t *testing.T) {
+// A template and a built shape never replace an existing file (a
+// filled-in field workbook, a field survey): exit 1, the file kept; a new
+// name is written.
+func TestNewFileNeverReplaces(t *testing.T) {
 	t.Parallel()
-	dir := t.TempDir()
-	book := filepath.Join(dir, "tallow-field.xlsx")
-	mustWrite(t, book, "field data\n")
-	_, errs, code := runCLI(t, "template", "-o", book)
-	if code != 1 || !strings.Contains(errs, "remove it or choose another name") {
-		t.Errorf("template over a workbook: exit %d, want 1:\n%s", code, errs)
-	}
-	if b, _ := os.ReadFile(book); string(b) != "field data\n" {
-		t.Errorf("the workbook was replaced: %.40q", b)
-	}
-	if _, errs, code := runCLI(t, "template", "-o", filepath.Join(dir, "new.xlsx")); code != 0 {
-		t.Errorf("a new template: exit %d\n%s", code, errs)
+	for _, tc := range []struct {
+		name, file string
+		args       []string
+	}{
+		{"template", "tallow-field.xlsx", []string{"template"}},
+		{"shape", "survey-keep.csv", []string{"shape", "rectangle:width=3"}},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			dir := t.TempDir()
+			kept := filepath.Join(dir, tc.file)
+			mustWrite(t, kept, "field data\n")
+			_, errs, code := runCLI(t, append(tc.args, "-o", kept)...)
+			if code != 1 || !strings.Contains(errs, "remove it or choose another name") {
+				t.Errorf("%s over a file: exit %d, want 1:\n%s", tc.name, code, errs)
+			}
+			if b, _ := os.ReadFile(kept); string(b) != "field data\n" {
+				t.Errorf("the file was replaced: %.40q", b)
+			}
+			if _, errs, code := runCLI(t, append(tc.args, "-o", filepath.Join(dir, "new"+filepath.Ext(tc.file)))...); code != 0 {
+				t.Errorf("a new file: exit %d\n%s", code, errs)
+			}
+		})
 	}
 }
 
@@ -208,5 +222,47 @@ func TestOutputPathMessages(t *testing.T) {
 	}
 	if got := listing(t, real); got != "" {
 		t.Errorf("the linked folder got %q", got)
+	}
+}
+
+// A report path that is no regular file (a pipe, a device) or names a
+// stream is refused suggesting standard output (-o -) only where a
+// command can write there: not for a template, which needs a file, nor
+// for a figure's path under --plots.
+func TestStdoutSuggestedOnlyWhereItWorks(t *testing.T) {
+	t.Parallel()
+	if runtime.GOOS == "windows" {
+		t.Skip("no named pipes")
+	}
+	dir := t.TempDir()
+	pipe, csvPipe := filepath.Join(dir, "pipe.xlsx"), filepath.Join(dir, "pipe.csv")
+	figs := filepath.Join(dir, "figs")
+	if err := os.Mkdir(figs, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range []string{pipe, csvPipe, filepath.Join(figs, "tallow-xs1-section.png")} {
+		if err := syscall.Mkfifo(p, 0o644); err != nil {
+			t.Skip("no named pipes:", err)
+		}
+	}
+	const hint = "-o -"
+	for _, tc := range []struct {
+		args []string
+		hint bool
+	}{
+		{[]string{"rate", demoSurveyPath, "--slope", "0.001", "-o", pipe}, true},
+		{[]string{"rate", demoSurveyPath, "--slope", "0.001", "-o", os.DevNull, "--format", "csv"}, true},
+		{[]string{"shape", "rectangle:width=2", "-o", csvPipe}, true},
+		{[]string{"template", "-o", pipe}, false},
+		{[]string{"rate", demoSurveyPath, "--slope", "0.001", "--plots", figs}, false},
+	} {
+		_, errs, code := runCLI(t, tc.args...)
+		if code != 1 || !strings.Contains(errs, "refusing to write there") {
+			t.Errorf("%v: exit %d, want 1 refusing the path:\n%s", tc.args, code, errs)
+			continue
+		}
+		if got := strings.Contains(errs, hint); got != tc.hint {
+			t.Errorf("%v: suggests %q: %v, want %v:\n%s", tc.args, hint, got, tc.hint, errs)
+		}
 	}
 }

@@ -94,7 +94,7 @@ func TestPlotResultsWorkbook(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, errs, code = runCLI(t, "plot", renamed, "-o", out)
-	if want := "missing column: the header needs a column named \"stage\" (or \"gauge_height\") (found: item, value, unit); sheet rating holds a rating table: give --table-sheet rating"; code != 1 || !strings.Contains(errs, want) {
+	if want := "missing column: the header needs a column named \"stage\" (or \"gauge_height\") (found: \"item\", \"value\", \"unit\"); sheet rating holds a rating table: give --table-sheet rating"; code != 1 || !strings.Contains(errs, want) {
 		t.Errorf("plot of a workbook whose first sheet is no table: exit %d: %s\nwant %q", code, errs, want)
 	}
 }

@@ -60,7 +60,9 @@ func runShape(ctx context.Context, e *env, args []string) error {
 		fmt.Sprintf("The sides stop at the nominal top, %g %s above the invert; edit the points freely.", sh.NominalHeight(), u.Length()),
 		"Caution: "+rating.Caution,
 	)
-	return e.deliver(delivery{output: *out, inline: true,
+	// A file of that name may be a field survey: never replaced, as
+	// template's workbook is not.
+	return e.deliver(delivery{output: *out, inline: true, fresh: true,
 		write: func(w io.Writer) error { return survey.WriteSectionCSV(w, sec, u, comments) },
 		summary: func(w io.Writer) error {
 			_, err := fmt.Fprintf(w, "wrote %s: %d points of %s\n", *out, len(sec.Points), sh.String())

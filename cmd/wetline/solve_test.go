@@ -116,8 +116,8 @@ func sameCSVNumbers(a, b string) bool {
 func TestShapeSurveyRoundTrip(t *testing.T) {
 	t.Parallel()
 	dir := t.TempDir()
-	for _, spec := range []string{"trapezoid:bottom=3,left=1.5,right=2,invert=101.25", "compound:bottom=2,side=1,depth=1.5,floodplain=20,outer=3", "rectangle:width=2.5", "triangle:side=0.75"} {
-		path := filepath.Join(dir, "built.csv")
+	for i, spec := range []string{"trapezoid:bottom=3,left=1.5,right=2,invert=101.25", "compound:bottom=2,side=1,depth=1.5,floodplain=20,outer=3", "rectangle:width=2.5", "triangle:side=0.75"} {
+		path := filepath.Join(dir, "built-"+strconv.Itoa(i)+".csv") // shape never replaces a file
 		n := "0.03"
 		if strings.HasPrefix(spec, "compound") {
 			n = "0.06,0.035,0.05"

@@ -62,7 +62,7 @@ func runTemplate(ctx context.Context, e *env, args []string) error {
 		return usagef("template: %d surveys: at most %d", len(opt.Surveys), survey.MaxTemplateSections)
 	}
 	// A workbook of that name may hold field data: never replaced.
-	return e.deliver(delivery{output: *out, inputs: *surveys, fresh: true,
+	return e.deliver(delivery{output: *out, inputs: *surveys, fresh: true, fileOnly: true,
 		write: func(w io.Writer) error { return survey.WriteTemplate(w, opt) },
 		summary: func(w io.Writer) error {
 			_, err := fmt.Fprintf(w, "wrote %s: %d cross-section sheets (%d prefilled), %s, %s, %s and %s; units %s, %s\n",

@@ -21,12 +21,14 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
 	"runtime"
 	"strings"
 	"sync"
+	"time"
 
 	"wetline/rating"
 	"wetline/subdivide"
@@ -161,13 +163,68 @@ func ListWarn(args []string, sheet, ext string) ([]Job, []string, []string, erro
 		warnings = append(warnings, fmt.Sprintf("skipped %s that %s: %s", rating.Counted(len(skipped), "file", "files"), rating.Agree(len(skipped), "is not a survey", "are not surveys"), strings.Join(skipped, ", ")))
 	}
 	warnings = append(warnings, twinWarnings(files, sniffs)...)
-	for _, path := range files {
+	var owner []int // the index in files of each job's file
+	for i, path := range files {
 		js, ws := fileJobs(path, sheet)
 		jobs = append(jobs, js...)
 		warnings = append(warnings, ws...)
+		for range js {
+			owner = append(owner, i)
+		}
 	}
 	uniqueNames(jobs, ext)
+	warnings = append(warnings, sameFileWarnings(files, jobs, owner)...)
 	return jobs, files, warnings, nil
+}
+
+// sameFileWarnings warns of each pair of files that are one file (one
+// path named twice, two spellings of it, a link: os.SameFile), whose
+// sections are rated twice under two names; owner gives the index in
+// files of each job's file. Two files of the same content are two
+// surveys, and not warned of here. Each file is looked at once: only
+// files of one size and time are compared (a batch may hold thousands).
+func sameFileWarnings(files []string, jobs []Job, owner []int) []string {
+	type key struct {
+		size int64
+		mod  time.Time
+	}
+	infos := make([]fs.FileInfo, len(files))
+	groups := map[key][]int{}
+	for i, f := range files {
+		st, err := os.Stat(f)
+		if err != nil {
+			continue // a missing file fails as its section
+		}
+		infos[i] = st
+		k := key{st.Size(), st.ModTime()}
+		groups[k] = append(groups[k], i)
+	}
+	sections := func(f int) string {
+		var names []string
+		for k, j := range jobs {
+			if owner[k] == f {
+				names = append(names, j.Name)
+			}
+		}
+		return rating.JoinAnd(names)
+	}
+	var out []string
+	for b := range files {
+		if infos[b] == nil {
+			continue
+		}
+		for _, a := range groups[key{infos[b].Size(), infos[b].ModTime()}] {
+			if a >= b || !os.SameFile(infos[a], infos[b]) {
+				continue
+			}
+			which := fmt.Sprintf("%s and %s are the same survey file", files[a], files[b])
+			if files[a] == files[b] {
+				which = fmt.Sprintf("%s is named twice, the same survey file", files[a])
+			}
+			out = append(out, fmt.Sprintf("%s: it is rated twice, as %s and as %s; leave one of them out", which, sections(a), sections(b)))
+		}
+	}
+	return out
 }
 
 // twinWarnings warns of each coordinate survey among files whose points

@@ -1003,3 +1003,53 @@ func TestListNamesSheetsNotRated(t *testing.T) {
 		t.Errorf("warnings %q, want one naming reach and instructions with their reasons", warnings)
 	}
 }
+
+// One survey file named twice in a batch (by another spelling, a hard
+// link, or in a folder also named) is warned of: it would be rated twice
+// under two names. Two files of the same content are two surveys.
+func TestListWarnsOfOneFileTwice(t *testing.T) {
+	dir := t.TempDir()
+	xs := filepath.Join(dir, "xs.csv")
+	if err := os.WriteFile(xs, []byte(trapezoid), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	copyOf := filepath.Join(dir, "sub", "xs-copy.csv")
+	if err := os.MkdirAll(filepath.Dir(copyOf), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(copyOf, []byte(trapezoid), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	hard := filepath.Join(dir, "sub", "hard.csv")
+	if err := os.Link(xs, hard); err != nil {
+		t.Skip("no hard links:", err)
+	}
+	for _, tc := range []struct {
+		name  string
+		args  []string
+		twice string // "" for no warning
+	}{
+		{"another spelling", []string{xs, dir + "/./xs.csv"}, xs + " and " + dir + "/./xs.csv"},
+		{"a hard link", []string{xs, hard}, xs + " and " + hard},
+		{"in a folder named too", []string{dir, xs}, xs + " is named twice"},
+		{"a copy", []string{xs, copyOf}, ""},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			_, _, warnings, err := batch.ListWarn(tc.args, "", "csv")
+			if err != nil {
+				t.Fatal(err)
+			}
+			w := strings.Join(warnings, "\n")
+			said := strings.Contains(w, "the same survey file")
+			if tc.twice == "" {
+				if said {
+					t.Errorf("warned of two files:\n%s", w)
+				}
+				return
+			}
+			if !said || !strings.Contains(w, tc.twice) || !strings.Contains(w, "rated twice") {
+				t.Errorf("want a warning naming %s, got:\n%s", tc.twice, w)
+			}
+		})
+	}
+}

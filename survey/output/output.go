@@ -21,8 +21,9 @@ var (
 	// (a survey redirected with < FILE), an input like any other.
 	ErrStdin = errors.New("is the file standard input is read from: refusing to write over an input file")
 	// ErrNotRegular: the destination exists and is not a regular file (a
-	// device, a pipe, a socket).
-	ErrNotRegular = errors.New("not a regular file: refusing to write there (write to standard output with -o - instead)")
+	// device, a pipe, a socket). A command that can write to standard
+	// output says so where it is of use.
+	ErrNotRegular = errors.New("not a regular file: refusing to write there")
 	// ErrLink: the destination is a symbolic link. Renaming onto it would
 	// replace the link, and writing through it would replace a file
 	// elsewhere, so neither is done.
@@ -34,7 +35,7 @@ var (
 	// open files (/dev/stdout, /dev/fd/N, /proc/self/fd/N, or a link to
 	// one). Renaming onto it would replace the file the stream is
 	// redirected to, whole, instead of writing through the stream.
-	ErrStream = errors.New("names a stream of the process (such as /dev/stdout): refusing to write there (write to standard output with -o - instead)")
+	ErrStream = errors.New("names a stream of the process (such as /dev/stdout): refusing to write there")
 	// ErrFolder: the destination of a file is a folder.
 	ErrFolder = errors.New("is a folder: give a file name")
 	// ErrReadOnly: the destination is a read-only file.
