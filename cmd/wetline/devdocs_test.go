@@ -1,0 +1,234 @@
+package main
+
+import (
+	"go/ast"
+	"go/parser"
+	"go/token"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"regexp"
+	"slices"
+	"strings"
+	"testing"
+)
+
+// developersPath is the contributor guide at the top of the module.
+const developersPath = moduleRoot + "/DEVELOPERS.md"
+
+// goDecls are the declarations of the module's Go files, as the manuals
+// may cite them.
+type goDecls struct {
+	// tests are the names of the Test, Benchmark, Fuzz and Example
+	// functions of every package.
+	tests map[string]bool
+	// pkgs maps a package's import path below the module ("rating/gauged")
+	// and its name ("gauged") to its top-level identifiers.
+	pkgs map[string]map[string]bool
+	// members maps a package to its types and each type to its methods
+	// and struct fields.
+	members map[string]map[string]map[string]bool
+	// types maps a type's name to the packages declaring it.
+	types map[string][]string
+}
+
+// readGoDecls parses every Go file of the module (tests too) and collects
+// its declarations.
+func readGoDecls(t *testing.T) goDecls {
+	t.Helper()
+	d := goDecls{tests: map[string]bool{}, pkgs: map[string]map[string]bool{},
+		members: map[string]map[string]map[string]bool{}, types: map[string][]string{}}
+	fset := token.NewFileSet()
+	err := filepath.WalkDir(moduleRoot, func(path string, e fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if e.IsDir() && (e.Name() == "testdata" || strings.HasPrefix(e.Name(), ".")) && path != moduleRoot {
+			return filepath.SkipDir
+		}
+		if e.IsDir() || !strings.HasSuffix(path, ".go") {
+			return nil
+		}
+		f, err := parser.ParseFile(fset, path, nil, parser.SkipObjectResolution)
+		if err != nil {
+			return err
+		}
+		rel, _ := filepath.Rel(moduleRoot, filepath.Dir(path))
+		pkg := filepath.ToSlash(rel)
+		if d.pkgs[pkg] == nil {
+			d.pkgs[pkg] = map[string]bool{}
+			d.pkgs[filepath.Base(pkg)] = d.pkgs[pkg]
+			d.members[pkg] = map[string]map[string]bool{}
+		}
+		top, members := d.pkgs[pkg], d.members[pkg]
+		member := func(typ, name string) {
+			if members[typ] == nil {
+				members[typ] = map[string]bool{}
+			}
+			members[typ][name] = true
+		}
+		for _, decl := range f.Decls {
+			switch decl := decl.(type) {
+			case *ast.FuncDecl:
+				if decl.Recv == nil {
+					top[decl.Name.Name] = true
+					if strings.HasSuffix(path, "_test.go") {
+						d.tests[decl.Name.Name] = true
+					}
+					continue
+				}
+				member(receiverType(decl.Recv.List[0].Type), decl.Name.Name)
+			case *ast.GenDecl:
+				for _, spec := range decl.Specs {
+					switch spec := spec.(type) {
+					case *ast.TypeSpec:
+						top[spec.Name.Name] = true
+						d.types[spec.Name.Name] = append(d.types[spec.Name.Name], pkg)
+						member(spec.Name.Name, "") // a type with no members is still a type
+						if st, ok := spec.Type.(*ast.StructType); ok {
+							for _, field := range st.Fields.List {
+								for _, n := range field.Names {
+									member(spec.Name.Name, n.Name)
+								}
+								if len(field.Names) == 0 { // embedded
+									member(spec.Name.Name, receiverType(field.Type))
+								}
+							}
+						}
+					case *ast.ValueSpec:
+						for _, n := range spec.Names {
+							top[n.Name] = true
+						}
+					}
+				}
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return d
+}
+
+// receiverType names the type of a receiver or an embedded field: T, *T,
+// T[P] and pkg.T give T.
+func receiverType(e ast.Expr) string {
+	switch e := e.(type) {
+	case *ast.StarExpr:
+		return receiverType(e.X)
+	case *ast.IndexExpr:
+		return receiverType(e.X)
+	case *ast.IndexListExpr:
+		return receiverType(e.X)
+	case *ast.SelectorExpr:
+		return e.Sel.Name
+	case *ast.Ident:
+		return e.Name
+	}
+	return ""
+}
+
+// docTestName matches the name of a test, benchmark, fuzz target or
+// example a manual cites.
+var docTestName = regexp.MustCompile(`\b(?:Test|Benchmark|Fuzz|Example)[A-Z_][A-Za-z0-9_]*`)
+
+// docPlaceholder matches a name standing for a kind of names, as
+// DEVELOPERS.md writes them: a capital X closing it after a lower-case
+// letter (FuzzX, plotting.DrawX, ErrX).
+var docPlaceholder = regexp.MustCompile(`[a-z]X$`)
+
+// TestManualsCiteExistingTests checks every test, benchmark, fuzz target
+// and example that DEVELOPERS.md and README.md name is defined in the
+// module, so a renamed or removed test does not leave the manuals citing
+// it.
+func TestManualsCiteExistingTests(t *testing.T) {
+	t.Parallel()
+	d := readGoDecls(t)
+	if len(d.tests) < 100 {
+		t.Fatalf("found %d test functions: the tree is not being read", len(d.tests))
+	}
+	for _, path := range []string{developersPath, readmePath} {
+		b, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, name := range slices.Compact(slices.Sorted(slices.Values(docTestName.FindAllString(string(b), -1)))) {
+			if !d.tests[name] && !docPlaceholder.MatchString(name) {
+				t.Errorf("%s cites %s, which no test file of the module defines", filepath.Base(path), name)
+			}
+		}
+	}
+}
+
+// docCode matches a code span of a manual.
+var docCode = regexp.MustCompile("`([^`\n]+)`")
+
+// docSelector matches a qualified Go name in a code span: pkg.Name,
+// pkg.Type.Member, path/pkg.Name or Type.Member.
+var docSelector = regexp.MustCompile(`(?:^|[^\w./])([A-Za-z_][\w/]*)\.([A-Za-z_]\w*)(?:\.([A-Za-z_]\w*))?`)
+
+// fileSuffixes are the endings that make a dotted name a file's, not Go.
+var fileSuffixes = map[string]bool{"go": true, "md": true, "mod": true, "sum": true, "csv": true,
+	"xlsx": true, "png": true, "json": true, "txt": true, "golden": true, "tmp": true, "lock": true,
+	"tmpdir": true, "old": true, "bak": true}
+
+// TestDevelopersNamesExist checks the Go names DEVELOPERS.md writes in
+// code spans qualified (pkg.Name, pkg.Type.Member, Type.Member) are
+// declared in the module: a package's identifier, a type's method or
+// field. A qualifier that is neither one of the module's packages nor a
+// type (a variable such as fs or e) is not checked.
+func TestDevelopersNamesExist(t *testing.T) {
+	t.Parallel()
+	d := readGoDecls(t)
+	b, err := os.ReadFile(developersPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hasMember := func(pkgs []string, typ, name string) bool {
+		for _, p := range pkgs {
+			if d.members[p][typ][name] {
+				return true
+			}
+		}
+		return false
+	}
+	checked := 0
+	for _, span := range docCode.FindAllStringSubmatch(string(b), -1) {
+		for _, m := range docSelector.FindAllStringSubmatch(span[1], -1) {
+			x, y, z := m[1], m[2], m[3]
+			if fileSuffixes[y] || docPlaceholder.MatchString(y) {
+				continue
+			}
+			if top, ok := d.pkgs[x]; ok {
+				checked++
+				path := x
+				if d.members[path] == nil { // a package's name: find its path
+					for p := range d.members {
+						if filepath.Base(p) == x {
+							path = p
+						}
+					}
+				}
+				switch {
+				case !top[y]:
+					t.Errorf("DEVELOPERS.md: `%s` names %s.%s, which package %s does not declare", span[1], x, y, path)
+				case z != "" && d.members[path][y] != nil && !d.members[path][y][z]:
+					t.Errorf("DEVELOPERS.md: `%s` names %s.%s.%s, which type %s of %s has no member %s", span[1], x, y, z, y, path, z)
+				}
+				continue
+			}
+			if pkgs := d.types[x]; len(pkgs) > 0 {
+				checked++
+				if !hasMember(pkgs, x, y) {
+					t.Errorf("DEVELOPERS.md: `%s` names %s.%s, and no type %s of the module has a method or field %s", span[1], x, y, x, y)
+				}
+			}
+		}
+	}
+	t.Logf("%d qualified names checked", checked)
+	if checked < 30 {
+		t.Fatalf("checked %d qualified names of DEVELOPERS.md: its code spans are not being read", checked)
+	}
+}
+
