@@ -232,3 +232,58 @@ func TestDevelopersNamesExist(t *testing.T) {
 	}
 }
 
+// TestCLITestsRunInParallel checks every test of this package calls
+// t.Parallel() among its first statements, as DEVELOPERS.md says, but a
+// test that sets the environment (t.Setenv), which testing refuses in a
+// parallel test.
+func TestCLITestsRunInParallel(t *testing.T) {
+	t.Parallel()
+	files, err := filepath.Glob("*_test.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	fset := token.NewFileSet()
+	seen := 0
+	for _, path := range files {
+		f, err := parser.ParseFile(fset, path, nil, parser.SkipObjectResolution)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, decl := range f.Decls {
+			fn, ok := decl.(*ast.FuncDecl)
+			if !ok || fn.Recv != nil || !strings.HasPrefix(fn.Name.Name, "Test") || fn.Name.Name == "TestMain" {
+				continue
+			}
+			seen++
+			calls := func(name string, within []ast.Stmt) bool {
+				found := false
+				for _, s := range within {
+					ast.Inspect(s, func(n ast.Node) bool {
+						if c, ok := n.(*ast.CallExpr); ok {
+							if sel, ok := c.Fun.(*ast.SelectorExpr); ok && sel.Sel.Name == name {
+								if id, ok := sel.X.(*ast.Ident); ok && id.Name == "t" {
+									found = true
+								}
+							}
+						}
+						return !found
+					})
+				}
+				return found
+			}
+			body := fn.Body.List
+			first := body[:min(len(body), 2)]
+			switch {
+			case calls("Setenv", body):
+				if calls("Parallel", first) {
+					t.Errorf("%s: %s calls t.Parallel and t.Setenv, which testing refuses together", fset.Position(fn.Pos()), fn.Name.Name)
+				}
+			case !calls("Parallel", first):
+				t.Errorf("%s: %s does not call t.Parallel() first", fset.Position(fn.Pos()), fn.Name.Name)
+			}
+		}
+	}
+	if seen < 100 {
+		t.Fatalf("found %d tests: the test files are not being read", seen)
+	}
+}
