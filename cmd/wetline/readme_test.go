@@ -572,9 +572,15 @@ func TestReadmeSynopsesMatchHelp(t *testing.T) {
 // `cowan`, `demo`)".
 var readmeSharedNot = regexp.MustCompile("`--([a-z-]+)[^`]*` \\(not\\s+((?:`[a-z]+`(?:,\\s+)?)+)")
 
+// readmeSharedOnly matches, in README's "What every command shares", flags
+// and the commands it says have them: "`--line` (`rate`, `solve`)",
+// "`--flow-azimuth`, `--offset-tolerance` (`rate`, …)".
+var readmeSharedOnly = regexp.MustCompile("((?:`--[a-z][a-z0-9-]*[^`]*`,?\\s+)+)\\(((?:`[a-z]+`(?:,\\s+)?)+)[);:]")
+
 // TestReadmeSharedFlags checks the README says, for each flag "What every
 // command shares" lists that not every command has, exactly which
-// commands lack it.
+// commands lack it, and, for each flag it lists with the commands that
+// have it, exactly which have it.
 func TestReadmeSharedFlags(t *testing.T) {
 	t.Parallel()
 	flags := readmeCommandFlags(t)
@@ -598,6 +604,33 @@ func TestReadmeSharedFlags(t *testing.T) {
 		got := slices.Sorted(slices.Values(said[flag]))
 		if !slices.Equal(got, lack) {
 			t.Errorf("README's shared --%s: says not %v, the commands without it are %v", flag, got, lack)
+		}
+	}
+	only := map[string][]string{}
+	for _, m := range readmeSharedOnly.FindAllStringSubmatch(shared, -1) {
+		var names []string
+		for _, n := range strings.Split(m[2], ",") {
+			names = append(names, strings.Trim(strings.TrimSpace(n), "`"))
+		}
+		for _, f := range readmeFlag.FindAllStringSubmatch(m[1], -1) {
+			only[f[1]] = slices.Sorted(slices.Values(names))
+		}
+	}
+	for _, flag := range []string{"line", "flow-azimuth", "offset-tolerance", "utc-offset"} {
+		if _, ok := only[flag]; !ok {
+			t.Errorf("README's shared flags: no list of the commands having --%s found", flag)
+		}
+	}
+	for flag, got := range only {
+		var have []string
+		for name, f := range flags {
+			if _, ok := f.long[flag]; ok {
+				have = append(have, name)
+			}
+		}
+		sort.Strings(have)
+		if !slices.Equal(got, have) {
+			t.Errorf("README's shared --%s: says %v have it, the commands with it are %v", flag, got, have)
 		}
 	}
 }
