@@ -21,7 +21,7 @@ import (
 
 const backwaterUsage = "backwater REACH [--sheet NAME] (--discharges Q1,Q2,... | --from Q1 --to Q2 --step DQ) " +
 	"--boundary normal:S|critical|stage:H|rating:FILE [--at ID] [--expansion K] [--contraction K] [--spread-tol D] " +
-	"[--verify Q] [--units si|us] [--all-pools] [--no-extend] [--surveys-anywhere] [--format text|csv|json|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--verify Q] [--units si|us] [--all-pools] [--no-extend] [--surveys-anywhere] [--format text|csv|json|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // MaxDischarges bounds the number of discharges of one run (a project
 // bound: a ladder of more is a typing slip, not a rating).

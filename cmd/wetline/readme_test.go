@@ -567,6 +567,70 @@ func TestReadmeSynopsesMatchHelp(t *testing.T) {
 	}
 }
 
+// siteBracket returns the brackets holding --site in a usage line, from
+// the outermost in: "[--plots DIR] [--site NAME]" gives ["--site NAME"];
+// nil where it is not named or stands outside every bracket.
+func siteBracket(line string) []string {
+	i := strings.Index(line, "--site")
+	if i < 0 {
+		return nil
+	}
+	var opens []int
+	for j := 0; j < i; j++ {
+		switch line[j] {
+		case '[':
+			opens = append(opens, j)
+		case ']':
+			opens = opens[:max(len(opens)-1, 0)]
+		}
+	}
+	var out []string
+	for _, o := range opens {
+		depth := 0
+		for j := o + 1; j < len(line); j++ {
+			if line[j] == '[' {
+				depth++
+			} else if line[j] == ']' {
+				if depth == 0 {
+					out = append(out, line[o+1:j])
+					break
+				}
+				depth--
+			}
+		}
+	}
+	return out
+}
+
+// TestSiteStandsAlone checks --site stands in a bracket of its own in
+// every command's usage line and README synopsis: it names the report and
+// the figures alike, so it hangs on no other flag (as --plots).
+func TestSiteStandsAlone(t *testing.T) {
+	t.Parallel()
+	lines := map[string]string{}
+	for name := range commandTable() {
+		out, _, _ := runCLI(t, name, "--help")
+		usage, _, _ := strings.Cut(out, "\n")
+		lines[name+" --help"] = usage
+	}
+	for _, syn := range readmeCodeLines(readme(t), synopsisBlock) {
+		lines["README synopsis of "+strings.Fields(syn)[1]] = syn
+	}
+	seen := 0
+	for where, line := range lines {
+		if !strings.Contains(line, "--site") {
+			continue
+		}
+		seen++
+		if in := siteBracket(line); len(in) != 1 || in[0] != "--site NAME" {
+			t.Errorf("%s: --site stands in %q, want a bracket of its own, [--site NAME]: %s", where, in, line)
+		}
+	}
+	if seen < 10 {
+		t.Fatalf("found --site in %d usage lines: they are not being read", seen)
+	}
+}
+
 // readmeSharedNot matches, in README's "What every command shares", a
 // shared flag and the commands it says lack it: "`--units si|us` (not
 // `cowan`, `demo`)".
