@@ -272,7 +272,8 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
 		inline: format == "text" || format == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: f.plots, figs: rep.Figures,
-		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) }})
+		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) },
+		console: func(w io.Writer) error { return results.WriteBackwaterConsole(w, rep) }})
 }
 
 // backwater reads a reach table, its surveys and a boundary rating file
