@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"image/png"
 	"os"
 	"path/filepath"
@@ -331,7 +332,10 @@ func inDir(t *testing.T, dir string, f cliFlags, words []string) []string {
 
 // TestReadmeExamples runs every command of the README's sh blocks where
 // the README says they run, inside a copy of the demo folder, and checks
-// each succeeds. The demo itself is run by demoOutput.
+// each succeeds. The demo itself is run by demoOutput. An example drawing
+// figures (--plots DIR, plot's -o DIR) draws them into a folder of its
+// own, and the command's section must name each file written, so that a
+// user running it finds the files the README says.
 func TestReadmeExamples(t *testing.T) {
 	t.Parallel()
 	src, _ := demoOutput(t)
@@ -340,11 +344,13 @@ func TestReadmeExamples(t *testing.T) {
 		t.Fatal(err)
 	}
 	flags := readmeCommandFlags(t)
-	lines := readmeCodeLines(readme(t), runnableBlock)
+	text := readme(t)
+	lines := readmeCodeLines(text, runnableBlock)
 	if len(lines) < 15 {
 		t.Fatalf("found %d example commands in the README: the sh blocks are not being read", len(lines))
 	}
-	for _, line := range lines {
+	drawn := 0
+	for i, line := range lines {
 		words := shellWords(strings.TrimPrefix(line, "wetline "))
 		if slices.Contains(words, ">") || slices.Contains(words, "|") {
 			t.Errorf("README example %q: write outputs with -o, not through the shell", line)
@@ -357,9 +363,34 @@ func TestReadmeExamples(t *testing.T) {
 		if f, ok := flags[words[0]]; ok {
 			args = inDir(t, dir, f, words)
 		}
+		figs := ""
+		for j := 1; j+1 < len(args); j++ {
+			if args[j] == "--plots" || words[0] == "plot" && (args[j] == "-o" || args[j] == "--output") {
+				figs = filepath.Join(dir, fmt.Sprintf("figures-%d", i))
+				args[j+1] = figs
+			}
+		}
 		if _, errs, code := runCLI(t, args...); code != 0 {
 			t.Errorf("README example %q: exit %d:\n%s", line, code, errs)
+			continue
 		}
+		if figs == "" {
+			continue
+		}
+		pngs, err := filepath.Glob(filepath.Join(figs, "*.png"))
+		if err != nil || len(pngs) == 0 {
+			t.Errorf("README example %q drew no figure (%v)", line, err)
+		}
+		sec := readmeSection(text, words[0])
+		for _, p := range pngs {
+			drawn++
+			if name := filepath.Base(p); !strings.Contains(sec, "`"+name+"`") {
+				t.Errorf("README example %q draws %s, which the section of %s does not name", line, name, words[0])
+			}
+		}
+	}
+	if drawn < 10 {
+		t.Errorf("the README's examples drew %d figures: their folders are not being found", drawn)
 	}
 }
 
