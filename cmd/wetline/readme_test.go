@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
 	"fmt"
 	"image/png"
 	"os"
@@ -11,6 +12,8 @@ import (
 	"sort"
 	"strings"
 	"testing"
+
+	"wetline/survey"
 )
 
 // readmeFigures are the demo's figures the README shows, copied from a
@@ -782,5 +785,74 @@ func TestReadmeNamesEveryFlag(t *testing.T) {
 			}
 			t.Errorf("README: the section of %s does not name --%s, which its help lists", name, flag)
 		}
+	}
+}
+
+// readmeExtrapolated matches the README's words of a rating table's
+// extrapolated column: those marking a row above the highest gauging,
+// then (after "; ") those of the other rows.
+var readmeExtrapolated = regexp.MustCompile("(?m)^\\| rating \\|.*`extrapolated` \\(([^;)]*); ([^)]*)\\)")
+
+// TestReadmeExtrapolatedWords checks the words the README gives a rating
+// table's extrapolated column are those the readers take and the fit CSV
+// writes: each word marking a row extrapolated is read so (the rating's
+// highest gauging is the row below it), each word of the other rows is
+// not, and every value a fit's CSV writes in the column is among them.
+func TestReadmeExtrapolatedWords(t *testing.T) {
+	t.Parallel()
+	m := readmeExtrapolated.FindStringSubmatch(readme(t))
+	if m == nil {
+		t.Fatal("README: no rating table row giving the words of its extrapolated column")
+	}
+	code := regexp.MustCompile("`([^`]+)`")
+	words := func(s string) []string {
+		var out []string
+		for _, w := range code.FindAllStringSubmatch(s, -1) {
+			if w[1] != "fit" {
+				out = append(out, w[1])
+			}
+		}
+		return out
+	}
+	marking, other := words(m[1]), append(words(m[2]), "")
+	if len(marking) == 0 || len(other) < 2 {
+		t.Fatalf("README: extrapolated words %q and %q not read", m[1], m[2])
+	}
+	for _, tc := range []struct {
+		words []string
+		high  float64 // the highest gauging the table gives
+	}{{marking, 0.8}, {other, 1.2}} {
+		for _, w := range tc.words {
+			table := "stage,discharge,extrapolated\n0.4,0.1,\n0.8,2.5,\n1.2,7.0," + w + "\n"
+			rt, err := survey.ParseRatingTables(strings.NewReader(table), "rating.csv", survey.RatingTableOptions{})
+			if err != nil || len(rt.Periods) != 1 {
+				t.Fatalf("%q: %v", w, err)
+			}
+			if r := rt.Periods[0].Rating; !r.HasHighGauging || r.HighGauging != tc.high {
+				t.Errorf("README's extrapolated word %q: the reader gives the highest gauging %v (%v), want %v", w, r.HighGauging, r.HasHighGauging, tc.high)
+			}
+		}
+	}
+	dir, _ := demoOutput(t)
+	out, errs, code2 := runCLI(t, "fit", filepath.Join(dir, "tallow-gaugings.csv"), "--section", filepath.Join(dir, "tallow-xs1.csv"),
+		"--slope", "0.0012", "--datum", "100", "--method", "lsq", "--format", "csv")
+	if code2 != 0 {
+		t.Fatalf("fit: exit %d: %s", code2, errs)
+	}
+	recs, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	if err != nil || len(recs) < 2 || recs[0][2] != "extrapolated" {
+		t.Fatalf("fit CSV: %v, header %q", err, recs[0])
+	}
+	written := map[string]bool{}
+	for _, r := range recs[1:] {
+		written[r[2]] = true
+	}
+	for w := range written {
+		if !slices.Contains(marking, w) && !slices.Contains(other, w) {
+			t.Errorf("fit CSV writes %q in its extrapolated column, which the README's rating table does not give", w)
+		}
+	}
+	if !written["true"] && !written["yes"] {
+		t.Errorf("the demo's fit marks no row extrapolated (%v): the check reads nothing", written)
 	}
 }
