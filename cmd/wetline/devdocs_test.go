@@ -287,3 +287,59 @@ func TestCLITestsRunInParallel(t *testing.T) {
 		t.Fatalf("found %d tests: the test files are not being read", seen)
 	}
 }
+
+// trialWord matches "trial" in a comment with the word after it.
+var trialWord = regexp.MustCompile(`(?i)\btrials?('s)?\b(\s+\S+)?`)
+
+// trialUses are the words that make "trial" the numerical term (a trial
+// stage of an iteration, the trials of a binomial count), not the
+// project's history.
+var trialUses = map[string]bool{"stage": true, "stages": true, "offset": true, "offsets": true, "value": true, "values": true,
+	"point": true, "points": true, "set": true, "sets": true, "breakpoint": true, "breakpoints": true, "starting": true,
+	"zero-flow": true, "and": true}
+
+// TestCommentsSpeakOfTheProject checks the comments of the module's Go
+// files speak of the project alone: no session, and "trial" only as the
+// numerical term (trialUses), never a run or user of the program that a
+// test's case came from; a comment describes the case itself.
+func TestCommentsSpeakOfTheProject(t *testing.T) {
+	t.Parallel()
+	fset := token.NewFileSet()
+	session := regexp.MustCompile(`(?i)\bsessions?\b`)
+	seen := 0
+	err := filepath.WalkDir(moduleRoot, func(path string, e fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if e.IsDir() && (e.Name() == "testdata" || strings.HasPrefix(e.Name(), ".")) && path != moduleRoot {
+			return filepath.SkipDir
+		}
+		if e.IsDir() || !strings.HasSuffix(path, ".go") || strings.HasSuffix(filepath.ToSlash(path), "cmd/wetline/devdocs_test.go") {
+			return nil // this file names the words it looks for
+		}
+		f, err := parser.ParseFile(fset, path, nil, parser.ParseComments|parser.SkipObjectResolution)
+		if err != nil {
+			return err
+		}
+		for _, g := range f.Comments {
+			seen++
+			text := g.Text()
+			if session.MatchString(text) {
+				t.Errorf("%s: a comment speaks of a session: %q", fset.Position(g.Pos()), strings.TrimSpace(text))
+			}
+			for _, m := range trialWord.FindAllStringSubmatch(text, -1) {
+				next := strings.Trim(strings.ToLower(strings.TrimSpace(m[2])), ".,;:()")
+				if m[1] != "" || !trialUses[next] {
+					t.Errorf("%s: a comment speaks of a trial (%q): describe the case itself", fset.Position(g.Pos()), strings.TrimSpace(m[0]))
+				}
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if seen < 1000 {
+		t.Fatalf("read %d comments: the tree is not being read", seen)
+	}
+}
