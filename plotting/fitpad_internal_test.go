@@ -9,9 +9,9 @@ import (
 )
 
 // The fit figure pads its axes so that the top gauging is drawn whole:
-// the trial's Patuxent figure (USGS 01594440, top gauging 21.1 ft,
-// testdata/reference/gaugings-01594440.csv) ended its stage axis at
-// 21.1 ft and cut the marker in half at the panel's edge. Here invented
+// unpadded, the figure of the Patuxent gaugings (USGS 01594440, top
+// gauging 21.1 ft, testdata/reference/gaugings-01594440.csv) ended its
+// stage axis at 21.1 ft and cut the marker in half at the panel's edge. Here invented
 // gaugings from 3.5 to 21.1 ft with e = 1.9 ft: the linear panel's stage
 // axis reaches EndPad of its span above 21.1 ft, and the log–log panel's
 // h − e axis EndPadLog of a decade above 19.2 ft.

@@ -98,7 +98,7 @@ func TestMarkColumnNames(t *testing.T) {
 	// marks is read, whichever it is, and the other is not warned of.
 	// The layouts are those of a data collector's export (common
 	// practice); the stations and elevations are invented, the second
-	// layout that of a trial user's survey whose banks were lost.
+	// layout one whose banks were once lost.
 	for _, tc := range []struct {
 		name, csv   string
 		left, right float64

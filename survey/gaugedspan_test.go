@@ -14,7 +14,7 @@ import (
 // not the headers' alone: 64 ft of a large river in a file naming no
 // unit, read with --units us, are within MaxGaugedSpanFeet. The limits
 // are common practice (see MaxGaugedSpan); the data are invented
-// (testdata/gaugings-us-bigriver.csv is the reviewer's input).
+// (testdata/gaugings-us-bigriver.csv among them).
 func TestGaugingSpanWarnings(t *testing.T) {
 	t.Parallel()
 	const head = "time,gauge_height%s,discharge\n"

@@ -88,7 +88,7 @@ func checkSplit(t *testing.T, tc splitCase, warnings []string, err error) {
 // after a whole station (stations at whole metres beside numeric point
 // codes are common) it is warned of; quoted marks, and headers in US
 // units, pass. The data are invented (sta-code is the layout of a
-// reviewer's survey that was refused).
+// survey with numeric point codes that was once refused).
 func TestSectionSplitNumber(t *testing.T) {
 	t.Parallel()
 	for _, tc := range []splitCase{
@@ -123,9 +123,8 @@ func TestSectionSplitNumber(t *testing.T) {
 // discharge or uncertainty, common in real data, warned of; headers in
 // US units and quoted cells pass; a note of measurement numbers
 // increasing down the rows passes. The data are invented
-// (testdata/gaugings-commas.csv is the reviewer's input; the verticals,
-// note and quality cases are the layouts of a reviewer's and a trial
-// user's gaugings that were refused).
+// (testdata/gaugings-commas.csv among them; the verticals, note and
+// quality cases are layouts of gaugings that were once refused).
 func TestGaugingsSplitNumber(t *testing.T) {
 	t.Parallel()
 	const head = "time,stage,discharge,"
@@ -165,9 +164,9 @@ func TestGaugingsSplitNumber(t *testing.T) {
 // a digit. Digit strings increasing down the rows are warned of too: a
 // record has no point numbers. Quoted qualities, a stage in feet and a
 // column the record does not read (a logger's temperature) pass. The
-// data are invented (testdata/stage-commas*.csv are the reviewer's
-// inputs; the centimetre cases are the layouts of a trial user's records
-// that were refused).
+// data are invented (testdata/stage-commas*.csv among them; the
+// centimetre cases are layouts of logger records that were once
+// refused).
 func TestStageRecordSplitNumber(t *testing.T) {
 	t.Parallel()
 	const head = "time,stage,quality\n"

@@ -21,7 +21,7 @@ import (
 
 const backwaterUsage = "backwater REACH [--sheet NAME] (--discharges Q1,Q2,... | --from Q1 --to Q2 --step DQ) " +
 	"--boundary normal:S|critical|stage:H|rating:FILE [--at ID] [--expansion K] [--contraction K] [--spread-tol D] " +
-	"[--verify Q] [--units si|us] [--all-pools] [--no-extend] [--surveys-anywhere] [--format text|csv|json|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--verify Q] [--units si|us] [--all-pools] [--no-extend] [--surveys-anywhere] [--format text|csv|json|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // MaxDischarges bounds the number of discharges of one run (a project
 // bound: a ladder of more is a typing slip, not a rating).
@@ -272,7 +272,8 @@ func runBackwater(ctx context.Context, e *env, args []string) error {
 	return e.deliver(delivery{output: f.output, inputs: rep.Provenance.Inputs,
 		write:  func(w io.Writer) error { return write(w, rep) },
 		inline: format == "text" || format == "json", warnings: rep.Warnings, notes: rep.Provenance.Notes, plots: f.plots, figs: rep.Figures,
-		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) }})
+		summary: func(w io.Writer) error { return results.WriteBackwaterSummary(w, rep, f.output) },
+		console: func(w io.Writer) error { return results.WriteBackwaterConsole(w, rep) }})
 }
 
 // backwater reads a reach table, its surveys and a boundary rating file

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"image/png"
 	"math"
 	"os"
@@ -14,7 +15,9 @@ import (
 	"testing"
 
 	"wetline/plotting"
+	"wetline/rating"
 	"wetline/survey"
+	"wetline/survey/results"
 )
 
 // bwReach writes a reach table of the demo's Tallow Creek sections (rows
@@ -164,6 +167,73 @@ func TestBackwaterJSONKeys(t *testing.T) {
 			t.Errorf("%s keys %q, want them to start %q", c.what, got, c.want)
 		}
 	}
+}
+
+// A verification asked of a run writing only the rating table (CSV, to
+// standard output or a file) is not dropped: standard error gives its
+// mean and largest departure, as the JSON report has them, and the caution
+// with the step-backwater note, as the text report states it.
+func TestBackwaterVerificationOnConsole(t *testing.T) {
+	t.Parallel()
+	dir, _ := demoOutput(t)
+	reach := filepath.Join(dir, demoBWReach)
+	args := []string{"backwater", reach, "--discharges", "5,20,45", "--boundary", "normal:0.0012", "--at", "XS-1", "--verify", "38"}
+	js, errs, code := runCLI(t, append(args, "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("json: exit %d: %s", code, errs)
+	}
+	var doc struct {
+		Verification struct {
+			MeanDeparture float64 `json:"mean_departure"`
+			MaxDeparture  float64 `json:"max_departure"`
+			Marks         []struct {
+				ID string `json:"id"`
+			} `json:"marks"`
+		} `json:"verification"`
+	}
+	if err := json.Unmarshal([]byte(js), &doc); err != nil {
+		t.Fatal(err)
+	}
+	v := doc.Verification
+	want := fmt.Sprintf("verification: the profile of 38 m3/s against the high-water marks of %d sections: mean departure %+.3f m, largest %+.3f m at ",
+		len(v.Marks), v.MeanDeparture, v.MaxDeparture)
+	out := filepath.Join(t.TempDir(), "xs1-backwater.csv")
+	for _, run := range []struct {
+		name string
+		args []string
+	}{
+		{"csv to standard output", append(slices.Clone(args), "--format", "csv")},
+		{"-o csv", append(slices.Clone(args), "-o", out)},
+	} {
+		_, errs, code := runCLI(t, run.args...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s", run.name, code, errs)
+		}
+		lines := strings.Split(strings.TrimSuffix(errs, "\n"), "\n")
+		if got := verificationLines(lines); len(got) != 1 || !strings.HasPrefix(got[0], want) {
+			t.Errorf("%s: verification lines %q on standard error, want one starting %q:\n%s", run.name, got, want, errs)
+		}
+		if len(lines) < 2 || lines[len(lines)-2] != "caution: "+results.BackwaterNote || lines[len(lines)-1] != "caution: "+rating.Caution {
+			t.Errorf("%s: standard error does not end with the step-backwater note and the caution:\n%s", run.name, errs)
+		}
+	}
+	// Without --verify there is no verification line.
+	_, errs, _ = runCLI(t, append(args[:len(args)-2:len(args)-2], "--format", "csv")...)
+	if len(verificationLines(strings.Split(errs, "\n"))) != 0 || !strings.Contains(errs, "caution: "+results.BackwaterNote) {
+		t.Errorf("without --verify: %s", errs)
+	}
+}
+
+// verificationLines are the console's lines summing up a verification
+// (not its warnings, "warning: verification: ...").
+func verificationLines(lines []string) []string {
+	var out []string
+	for _, l := range lines {
+		if l = strings.TrimSpace(l); strings.HasPrefix(l, "verification: ") {
+			out = append(out, l)
+		}
+	}
+	return out
 }
 
 // The README's table of JSON keys gives the backwater report's keys, and

@@ -46,7 +46,7 @@ func runBatch(ctx context.Context, e *env, fs *flagSet, f *rateFlags) error {
 	var format string
 	var err error
 	if f.long {
-		format, err = outputFormat("rate", f.format, f.output, "csv")
+		format, err = outputFormat("rate --long", f.format, f.output, "csv")
 	} else {
 		if f.output == "" || f.output == "-" {
 			return usagef("rate: with several surveys give -o DIR (a folder for one table per section) or --long")

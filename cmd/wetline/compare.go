@@ -20,7 +20,7 @@ import (
 const compareUsage = "compare A B [--sheet-a NAME] [--sheet-b NAME] [--units si|us] " +
 	"[ratings: --zero-flow E[,E_B]] [--datum D[,D_B]] [--step D] " +
 	"[surveys: --stages LIST | --step D] [--n N] [--all-pools] " +
-	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // compareFlags are the flags of the compare command.
 type compareFlags struct {

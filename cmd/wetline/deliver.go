@@ -37,6 +37,10 @@ type delivery struct {
 	figs  []rating.Figure
 	// summary prints the console summary after the report file is written.
 	summary func(w io.Writer) error
+	// console prints, after a report on standard output that does not
+	// carry its warnings and caution, what the console says in their
+	// place; nil: the warnings and the caution.
+	console func(w io.Writer) error
 }
 
 // toStdout reports whether the report goes to standard output.
@@ -110,6 +114,9 @@ func (e *env) deliver(d delivery) error {
 	case d.toStdout() && !d.inline:
 		if err := results.WriteInputNotes(e.stderr, d.notes); err != nil {
 			return err
+		}
+		if d.console != nil {
+			return d.console(e.stderr)
 		}
 		return endNote(e.stderr, d.warnings)
 	case !d.toStdout() && d.summary != nil:

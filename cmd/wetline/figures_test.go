@@ -98,6 +98,7 @@ func TestRateFiguresNamedAfterSheet(t *testing.T) {
 // named alike gets the smallest free suffix, the same for the whole set;
 // names differing only in case count as alike; other folders are apart.
 func TestRunFiguresPlace(t *testing.T) {
+	t.Parallel()
 	set := func(base string, kinds ...string) []rating.Figure {
 		var out []rating.Figure
 		for _, k := range kinds {

@@ -21,7 +21,7 @@ import (
 const fitUsage = "fit GAUGINGS [--gaugings-sheet NAME] [--section SURVEY --slope S | --hydraulic-rating TABLE [--hydraulic-zero-flow E]] [--datum D] [--channel-only] [--compare-only] " +
 	"[--method bayes|lsq] [--controls N] [--breaks H1,H2] [--kinds K1,K2] [--joints J2] [--zero-flow auto|control|VALUE] " +
 	"[--control-section RIFFLE] [--n-cv CV] [--slope-cv CV] [--draws N] [--chains N] [--seed N] [--show-unconverged] " +
-	"[--exclude TIME,...] [--period FROM..TO] [--utc-offset ±HH:MM] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--exclude TIME,...] [--period FROM..TO] [--utc-offset ±HH:MM] [--to H] [--step D] [--units si|us] [--format text|json|csv|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // Defaults of the fit command's Bayesian flags.
 const (

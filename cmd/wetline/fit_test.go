@@ -324,8 +324,8 @@ func TestFitUsageErrors(t *testing.T) {
 		{"fit", fitDemoGaugings, "--method", "lsq", "--show-unconverged"},
 		{"fit", fitDemoGaugings, "--draws", "0"},
 		// Memory bound: at most gauged.MaxChains chains and
-		// gauged.MaxKeptDraws draws in all (the trial's 999999999999 draws
-		// ran out of memory).
+		// gauged.MaxKeptDraws draws in all (999999999999 draws would run
+		// out of memory).
 		{"fit", fitDemoGaugings, "--draws", "999999999999"},
 		{"fit", fitDemoGaugings, "--chains", "100000"},
 		{"fit", fitDemoGaugings, "--chains", "8", "--draws", "300000"},

@@ -448,7 +448,20 @@ func (n *numbers) Type() string { return "numbers" }
 // file's extension (.txt is text), else the first allowed one for
 // standard output. An extension the command cannot write is refused.
 func outputFormat(cmd, flag, output string, allowed ...string) (string, error) {
-	f, err := chooseFormat(cmd, flag, output, allowed)
+	return pickFormat(cmd, flag, output, true, allowed)
+}
+
+// fixedFormat checks the output file's extension is that of the one
+// format a command without a --format flag writes.
+func fixedFormat(cmd, output, format string) error {
+	_, err := pickFormat(cmd, "", output, false, []string{format})
+	return err
+}
+
+// pickFormat is outputFormat; withFlag says the command has --format, so
+// its messages offer it.
+func pickFormat(cmd, flag, output string, withFlag bool, allowed []string) (string, error) {
+	f, err := chooseFormat(cmd, flag, output, withFlag, allowed)
 	if err == nil && f == "xlsx" && output == "" {
 		// A workbook is no text for a terminal: it goes to a file, or to
 		// standard output only when asked for with -o -.
@@ -457,12 +470,18 @@ func outputFormat(cmd, flag, output string, allowed ...string) (string, error) {
 	return f, err
 }
 
+// outputFormats are the formats of every report (.txt read as text): an
+// -o named as one of them names a format the command may not write.
+var outputFormats = map[string]bool{"csv": true, "json": true, "text": true, "xlsx": true}
+
 // chooseFormat picks the format of --format, else of the -o extension,
-// else the first allowed.
-func chooseFormat(cmd, flag, output string, allowed []string) (string, error) {
+// else the first allowed. Its refusals of an extension name the formats
+// the command writes; an unknown extension's offers --format too where
+// the command has it (withFlag).
+func chooseFormat(cmd, flag, output string, withFlag bool, allowed []string) (string, error) {
 	if st, err := os.Stat(output); err == nil && st.IsDir() && output != "-" {
 		return "", usagef("%s: -o %s is a folder: name a file (such as %s)", cmd, output,
-			filepath.Join(output, cmd+"."+extensions(allowed)[0]))
+			filepath.Join(output, strings.Fields(cmd)[0]+"."+extensions(allowed)[0]))
 	}
 	f := strings.ToLower(flag)
 	if f != "" {
@@ -485,8 +504,26 @@ func chooseFormat(cmd, flag, output string, allowed []string) (string, error) {
 			return a, nil
 		}
 	}
-	return "", usagef("%s: -o %s: cannot tell the format from the extension %q: name the file .%s, or give --format",
-		cmd, output, filepath.Ext(output), strings.Join(extensions(allowed), ", ."))
+	exts := extensions(allowed)
+	for i := range exts {
+		exts[i] = "." + exts[i]
+	}
+	if outputFormats[ext] {
+		return "", usagef("%s: -o %s: %s writes %s, not %s: name the file %s", cmd, output, cmd, orList(allowed), ext, orList(exts))
+	}
+	hint := "name the file " + orList(exts)
+	if withFlag {
+		hint += ", or give --format"
+	}
+	return "", usagef("%s: -o %s: cannot tell the format from the extension %q: %s", cmd, output, filepath.Ext(output), hint)
+}
+
+// orList joins words as "a", "a or b", "a, b or c".
+func orList(words []string) string {
+	if len(words) < 2 {
+		return strings.Join(words, "")
+	}
+	return strings.Join(words[:len(words)-1], ", ") + " or " + words[len(words)-1]
 }
 
 // extensions lists the file extensions of formats.

@@ -281,3 +281,40 @@ func TestOperandCount(t *testing.T) {
 		}
 	}
 }
+
+// TestOutputExtensionMessages: an -o whose extension a command does not
+// write is refused naming the formats that command writes; a known
+// format's extension is not called unknown, and --format is offered only
+// by a command that has it, for an extension naming no format.
+func TestOutputExtensionMessages(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	survey := filepath.Join(moduleRoot, "testdata", "tallow-xs1.csv")
+	out := func(name string) string { return filepath.Join(dir, name) }
+	for _, tc := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"solve", survey, "--discharge", "10", "-o", out("s.xlsx")},
+			"solve: -o " + out("s.xlsx") + ": solve writes text or json, not xlsx: name the file .txt or .json"},
+		{[]string{"solve", survey, "--discharge", "10", "-o", out("s.dat")},
+			"solve: -o " + out("s.dat") + `: cannot tell the format from the extension ".dat": name the file .txt or .json, or give --format`},
+		{[]string{"shape", "rectangle:width=3", "-o", out("s.xlsx")},
+			"shape: -o " + out("s.xlsx") + ": shape writes csv, not xlsx: name the file .csv"},
+		{[]string{"shape", "rectangle:width=3", "-o", out("s.dat")},
+			"shape: -o " + out("s.dat") + `: cannot tell the format from the extension ".dat": name the file .csv`},
+		{[]string{"slopearea", out("reach.csv"), "-o", out("s.csv")},
+			"slopearea: -o " + out("s.csv") + ": slopearea writes text, json or xlsx, not csv: name the file .txt, .json or .xlsx"},
+		{[]string{"project", out("coords.csv"), "-o", out("p.txt")},
+			"project: -o " + out("p.txt") + ": project writes csv or json, not text: name the file .csv or .json"},
+	} {
+		_, errs, code := runCLI(t, tc.args...)
+		first, _, _ := strings.Cut(errs, "\n")
+		if code != 2 || first != "wetline: "+tc.want {
+			t.Errorf("%s: exit %d, %q; want 2, %q", strings.Join(tc.args, " "), code, first, "wetline: "+tc.want)
+		}
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+		t.Errorf("%d files written", len(entries))
+	}
+}

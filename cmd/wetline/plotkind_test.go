@@ -103,6 +103,7 @@ func TestPlotResultsWorkbook(t *testing.T) {
 // section's site, else the site a results workbook's summary holds, not
 // the file's name.
 func TestFigureSite(t *testing.T) {
+	t.Parallel()
 	withSite := &survey.Prepared{Site: rating.Site{Name: "Mill Ford Run at the weir"}}
 	for _, tc := range []struct {
 		name, summary string

@@ -10,7 +10,7 @@ import (
 	"wetline/survey/results"
 )
 
-const projectUsage = "project SURVEY [--sheet NAME] [--line E1,N1,E2,N2] [--flow-azimuth DEG] [--offset-tolerance D] [--units si|us] [--format csv|json] [-o FILE] [--plots DIR [--site NAME]]"
+const projectUsage = "project SURVEY [--sheet NAME] [--line E1,N1,E2,N2] [--flow-azimuth DEG] [--offset-tolerance D] [--units si|us] [--format csv|json] [-o FILE] [--plots DIR] [--site NAME]"
 
 // runProject turns a coordinate survey (easting, northing, elevation)
 // into the station–elevation survey every command reads, for a crew to

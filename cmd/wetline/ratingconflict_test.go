@@ -12,6 +12,7 @@ import (
 // named at the file and row the time came from, not a usage error; two
 // times both given on the command line stay a usage error (exit 2).
 func TestRatingValidFromConflict(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	dated := filepath.Join(dir, "dated.csv")
 	if err := os.WriteFile(dated, []byte("# invented\nstage,discharge,valid_from\n0.40,0.60,2024-05-01T12:00Z\n0.90,5.20,2024-05-01T12:00Z\n1.20,9.10,2024-05-01T12:00Z\n"), 0o644); err != nil {

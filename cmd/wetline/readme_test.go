@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
+	"fmt"
 	"image/png"
 	"os"
 	"path/filepath"
@@ -10,6 +12,8 @@ import (
 	"sort"
 	"strings"
 	"testing"
+
+	"wetline/survey"
 )
 
 // readmeFigures are the demo's figures the README shows, copied from a
@@ -331,7 +335,10 @@ func inDir(t *testing.T, dir string, f cliFlags, words []string) []string {
 
 // TestReadmeExamples runs every command of the README's sh blocks where
 // the README says they run, inside a copy of the demo folder, and checks
-// each succeeds. The demo itself is run by demoOutput.
+// each succeeds. The demo itself is run by demoOutput. An example drawing
+// figures (--plots DIR, plot's -o DIR) draws them into a folder of its
+// own, and the command's section must name each file written, so that a
+// user running it finds the files the README says.
 func TestReadmeExamples(t *testing.T) {
 	t.Parallel()
 	src, _ := demoOutput(t)
@@ -340,11 +347,13 @@ func TestReadmeExamples(t *testing.T) {
 		t.Fatal(err)
 	}
 	flags := readmeCommandFlags(t)
-	lines := readmeCodeLines(readme(t), runnableBlock)
+	text := readme(t)
+	lines := readmeCodeLines(text, runnableBlock)
 	if len(lines) < 15 {
 		t.Fatalf("found %d example commands in the README: the sh blocks are not being read", len(lines))
 	}
-	for _, line := range lines {
+	drawn := 0
+	for i, line := range lines {
 		words := shellWords(strings.TrimPrefix(line, "wetline "))
 		if slices.Contains(words, ">") || slices.Contains(words, "|") {
 			t.Errorf("README example %q: write outputs with -o, not through the shell", line)
@@ -357,9 +366,34 @@ func TestReadmeExamples(t *testing.T) {
 		if f, ok := flags[words[0]]; ok {
 			args = inDir(t, dir, f, words)
 		}
+		figs := ""
+		for j := 1; j+1 < len(args); j++ {
+			if args[j] == "--plots" || words[0] == "plot" && (args[j] == "-o" || args[j] == "--output") {
+				figs = filepath.Join(dir, fmt.Sprintf("figures-%d", i))
+				args[j+1] = figs
+			}
+		}
 		if _, errs, code := runCLI(t, args...); code != 0 {
 			t.Errorf("README example %q: exit %d:\n%s", line, code, errs)
+			continue
 		}
+		if figs == "" {
+			continue
+		}
+		pngs, err := filepath.Glob(filepath.Join(figs, "*.png"))
+		if err != nil || len(pngs) == 0 {
+			t.Errorf("README example %q drew no figure (%v)", line, err)
+		}
+		sec := readmeSection(text, words[0])
+		for _, p := range pngs {
+			drawn++
+			if name := filepath.Base(p); !strings.Contains(sec, "`"+name+"`") {
+				t.Errorf("README example %q draws %s, which the section of %s does not name", line, name, words[0])
+			}
+		}
+	}
+	if drawn < 10 {
+		t.Errorf("the README's examples drew %d figures: their folders are not being found", drawn)
 	}
 }
 
@@ -567,14 +601,84 @@ func TestReadmeSynopsesMatchHelp(t *testing.T) {
 	}
 }
 
+// siteBracket returns the brackets holding --site in a usage line, from
+// the outermost in: "[--plots DIR] [--site NAME]" gives ["--site NAME"];
+// nil where it is not named or stands outside every bracket.
+func siteBracket(line string) []string {
+	i := strings.Index(line, "--site")
+	if i < 0 {
+		return nil
+	}
+	var opens []int
+	for j := 0; j < i; j++ {
+		switch line[j] {
+		case '[':
+			opens = append(opens, j)
+		case ']':
+			opens = opens[:max(len(opens)-1, 0)]
+		}
+	}
+	var out []string
+	for _, o := range opens {
+		depth := 0
+		for j := o + 1; j < len(line); j++ {
+			if line[j] == '[' {
+				depth++
+			} else if line[j] == ']' {
+				if depth == 0 {
+					out = append(out, line[o+1:j])
+					break
+				}
+				depth--
+			}
+		}
+	}
+	return out
+}
+
+// TestSiteStandsAlone checks --site stands in a bracket of its own in
+// every command's usage line and README synopsis: it names the report and
+// the figures alike, so it hangs on no other flag (as --plots).
+func TestSiteStandsAlone(t *testing.T) {
+	t.Parallel()
+	lines := map[string]string{}
+	for name := range commandTable() {
+		out, _, _ := runCLI(t, name, "--help")
+		usage, _, _ := strings.Cut(out, "\n")
+		lines[name+" --help"] = usage
+	}
+	for _, syn := range readmeCodeLines(readme(t), synopsisBlock) {
+		lines["README synopsis of "+strings.Fields(syn)[1]] = syn
+	}
+	seen := 0
+	for where, line := range lines {
+		if !strings.Contains(line, "--site") {
+			continue
+		}
+		seen++
+		if in := siteBracket(line); len(in) != 1 || in[0] != "--site NAME" {
+			t.Errorf("%s: --site stands in %q, want a bracket of its own, [--site NAME]: %s", where, in, line)
+		}
+	}
+	if seen < 10 {
+		t.Fatalf("found --site in %d usage lines: they are not being read", seen)
+	}
+}
+
 // readmeSharedNot matches, in README's "What every command shares", a
 // shared flag and the commands it says lack it: "`--units si|us` (not
 // `cowan`, `demo`)".
 var readmeSharedNot = regexp.MustCompile("`--([a-z-]+)[^`]*` \\(not\\s+((?:`[a-z]+`(?:,\\s+)?)+)")
 
+// readmeSharedOnly matches, in README's "What every command shares", flags
+// and the commands it says have them: "`--line` (`rate`, `solve`)",
+// "`--flow-azimuth`, `--offset-tolerance` (`rate`, …)".
+var readmeSharedOnly = regexp.MustCompile("((?:`--[a-z][a-z0-9-]*[^`]*`,?\\s+)+)\\(((?:`[a-z]+`(?:,\\s+)?)+)[);:]")
+
 // TestReadmeSharedFlags checks the README says, for each flag "What every
 // command shares" lists that not every command has, exactly which
-// commands lack it.
+// commands lack it, and, for each flag it lists with the commands that
+// have it, exactly which have it.
 func TestReadmeSharedFlags(t *testing.T) {
 	t.Parallel()
 	flags := readmeCommandFlags(t)
@@ -598,6 +702,33 @@ func TestReadmeSharedFlags(t *testing.T) {
 		got := slices.Sorted(slices.Values(said[flag]))
 		if !slices.Equal(got, lack) {
 			t.Errorf("README's shared --%s: says not %v, the commands without it are %v", flag, got, lack)
+		}
+	}
+	only := map[string][]string{}
+	for _, m := range readmeSharedOnly.FindAllStringSubmatch(shared, -1) {
+		var names []string
+		for _, n := range strings.Split(m[2], ",") {
+			names = append(names, strings.Trim(strings.TrimSpace(n), "`"))
+		}
+		for _, f := range readmeFlag.FindAllStringSubmatch(m[1], -1) {
+			only[f[1]] = slices.Sorted(slices.Values(names))
+		}
+	}
+	for _, flag := range []string{"line", "flow-azimuth", "offset-tolerance", "utc-offset"} {
+		if _, ok := only[flag]; !ok {
+			t.Errorf("README's shared flags: no list of the commands having --%s found", flag)
+		}
+	}
+	for flag, got := range only {
+		var have []string
+		for name, f := range flags {
+			if _, ok := f.long[flag]; ok {
+				have = append(have, name)
+			}
+		}
+		sort.Strings(have)
+		if !slices.Equal(got, have) {
+			t.Errorf("README's shared --%s: says %v have it, the commands with it are %v", flag, got, have)
 		}
 	}
 }
@@ -654,5 +785,74 @@ func TestReadmeNamesEveryFlag(t *testing.T) {
 			}
 			t.Errorf("README: the section of %s does not name --%s, which its help lists", name, flag)
 		}
+	}
+}
+
+// readmeExtrapolated matches the README's words of a rating table's
+// extrapolated column: those marking a row above the highest gauging,
+// then (after "; ") those of the other rows.
+var readmeExtrapolated = regexp.MustCompile("(?m)^\\| rating \\|.*`extrapolated` \\(([^;)]*); ([^)]*)\\)")
+
+// TestReadmeExtrapolatedWords checks the words the README gives a rating
+// table's extrapolated column are those the readers take and the fit CSV
+// writes: each word marking a row extrapolated is read so (the rating's
+// highest gauging is the row below it), each word of the other rows is
+// not, and every value a fit's CSV writes in the column is among them.
+func TestReadmeExtrapolatedWords(t *testing.T) {
+	t.Parallel()
+	m := readmeExtrapolated.FindStringSubmatch(readme(t))
+	if m == nil {
+		t.Fatal("README: no rating table row giving the words of its extrapolated column")
+	}
+	code := regexp.MustCompile("`([^`]+)`")
+	words := func(s string) []string {
+		var out []string
+		for _, w := range code.FindAllStringSubmatch(s, -1) {
+			if w[1] != "fit" {
+				out = append(out, w[1])
+			}
+		}
+		return out
+	}
+	marking, other := words(m[1]), append(words(m[2]), "")
+	if len(marking) == 0 || len(other) < 2 {
+		t.Fatalf("README: extrapolated words %q and %q not read", m[1], m[2])
+	}
+	for _, tc := range []struct {
+		words []string
+		high  float64 // the highest gauging the table gives
+	}{{marking, 0.8}, {other, 1.2}} {
+		for _, w := range tc.words {
+			table := "stage,discharge,extrapolated\n0.4,0.1,\n0.8,2.5,\n1.2,7.0," + w + "\n"
+			rt, err := survey.ParseRatingTables(strings.NewReader(table), "rating.csv", survey.RatingTableOptions{})
+			if err != nil || len(rt.Periods) != 1 {
+				t.Fatalf("%q: %v", w, err)
+			}
+			if r := rt.Periods[0].Rating; !r.HasHighGauging || r.HighGauging != tc.high {
+				t.Errorf("README's extrapolated word %q: the reader gives the highest gauging %v (%v), want %v", w, r.HighGauging, r.HasHighGauging, tc.high)
+			}
+		}
+	}
+	dir, _ := demoOutput(t)
+	out, errs, code2 := runCLI(t, "fit", filepath.Join(dir, "tallow-gaugings.csv"), "--section", filepath.Join(dir, "tallow-xs1.csv"),
+		"--slope", "0.0012", "--datum", "100", "--method", "lsq", "--format", "csv")
+	if code2 != 0 {
+		t.Fatalf("fit: exit %d: %s", code2, errs)
+	}
+	recs, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	if err != nil || len(recs) < 2 || recs[0][2] != "extrapolated" {
+		t.Fatalf("fit CSV: %v, header %q", err, recs[0])
+	}
+	written := map[string]bool{}
+	for _, r := range recs[1:] {
+		written[r[2]] = true
+	}
+	for w := range written {
+		if !slices.Contains(marking, w) && !slices.Contains(other, w) {
+			t.Errorf("fit CSV writes %q in its extrapolated column, which the README's rating table does not give", w)
+		}
+	}
+	if !written["true"] && !written["yes"] {
+		t.Errorf("the demo's fit marks no row extrapolated (%v): the check reads nothing", written)
 	}
 }

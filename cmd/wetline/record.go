@@ -376,7 +376,7 @@ func (o *utcOffset) Type() string { return "offset" }
 
 const recordUsage = "record STAGES --rating FILE[@TIME] [--rating FILE@TIME ...] [--shifts FILE] [--gaugings FILE] [--daily] [--unit] " +
 	"[--max-gap DURATION] [--stage-tolerance D] [--utc-offset ±HH:MM] [--zero-flow E,...] [--highest-gauging H,...] [--extrapolate] [--datum D] [--units si|us] " +
-	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // recordFlags are the flags of the record command.
 type recordFlags struct {

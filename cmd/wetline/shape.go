@@ -27,7 +27,7 @@ func runShape(ctx context.Context, e *env, args []string) error {
 	if err := fs.parseOperands(e, args, 1, fmt.Sprintf("one SPEC (%s)", subdivide.ShapeForms)); err != nil {
 		return err
 	}
-	if _, err := outputFormat("shape", "", *out, "csv"); err != nil {
+	if err := fixedFormat("shape", *out, "csv"); err != nil {
 		return err
 	}
 	u, err := rating.ParseUnits(*units)

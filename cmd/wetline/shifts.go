@@ -17,7 +17,7 @@ import (
 
 const shiftsUsage = "shifts GAUGINGS --rating FILE[@TIME] [--rating FILE@TIME ...] [--shifts FILE] [--proposed FILE.csv] [--visit-gap DURATION] " +
 	"[--utc-offset ±HH:MM] [--zero-flow E,...] [--highest-gauging H,...] [--extrapolate] [--datum D] [--units si|us] " +
-	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR [--site NAME]]"
+	"[--format text|json|csv|xlsx] [-o FILE] [--plots DIR] [--site NAME]"
 
 // shiftsFlags are the flags of the shifts command.
 type shiftsFlags struct {

@@ -18,7 +18,7 @@ import (
 	"wetline/survey/results"
 )
 
-const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR [--site NAME]] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
+const slopeAreaUsage = "slopearea REACH [--sheet NAME] [--plots DIR] [--site NAME] [--units si|us] [--side mean|left|right] [--mark-spread D] " +
 	"[--draws N] [--seed N] [--n-cv CV] [--n-errors independent|by-region] [--mark-sd SD] [--slope S] [--all-pools] [--no-extend] [--surveys-anywhere] [--format text|json|xlsx] [-o FILE]"
 
 // minDraws is the fewest Monte Carlo draws slopearea takes for a band:

@@ -194,7 +194,7 @@ func TestSolveWithoutN(t *testing.T) {
 		{"compound critical", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--stage", "2.5"}, 2, "alpha weighs its floodplains"},
 		{"compound area", []string{"--shape", "compound:bottom=4,side=0,depth=2,floodplain=40,outer=0,floodn=0.06", "--area", "8"}, 0, "held at stage 2.0000 m"},
 		// The same trapezoid surveyed, with no n column: a survey without
-		// banks is one region, as the shape (the trial's non.csv was
+		// banks is one region, as the shape (such a survey was once
 		// refused for --area and --stage).
 		{"survey area", []string{noN, "--area", "10"}, 0, "held at stage 1.6085 m"},
 		{"survey critical at a stage", []string{noN, "--stage", "1"}, 0, "critical discharge is 13.23 m3/s"},

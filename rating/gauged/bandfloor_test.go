@@ -71,8 +71,8 @@ func TestBandFloor(t *testing.T) {
 }
 
 // TestFitBandFloor: the segment fit of the library (FitPowerLaw) has the
-// same floor, e + t·SE(e): below it no band (a reviewer found an upper
-// bound of 6783 m³/s at 1 mm above e on these gaugings, closed form as in
+// same floor, e + t·SE(e): below it no band (unfloored, the upper bound
+// was 6783 m³/s at 1 mm above e on these gaugings, closed form as in
 // TestBandFloor); above it the band holds the fitted discharge.
 func TestFitBandFloor(t *testing.T) {
 	gs := floorGaugings()

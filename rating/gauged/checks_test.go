@@ -179,8 +179,8 @@ func TestSelectionUnmatched(t *testing.T) {
 // Reference: testdata/reference/gaugings-01594440.csv (USGS 01594440).
 // The mean departure test of a weighted least-squares fit is made on its
 // unweighted departures in ln Q, as ISO 1100-2 gives it for gaugings: on
-// one control fitted to the 142 measurements t = −2.11 (p = 0.037, the
-// trial's figure), a failure. The weighted mean of the same departures is
+// one control fitted to the 142 measurements t = −2.11 (p = 0.037), a
+// failure. The weighted mean of the same departures is
 // zero by the normal equation of ln A, so a weighted test would read
 // t = 0 and p = 1 on every least-squares fit; the test must not be that.
 func TestMeanDepartureTestIsUnweighted(t *testing.T) {

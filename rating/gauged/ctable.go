@@ -300,8 +300,8 @@ func (t *ControlTable) join(e ConveyanceSlope) (ConveyanceSlope, error) {
 // −C/(h − B₁), grows without bound as h falls to B₁, and the linearised
 // upper bound Q·exp(t·C·SE(B₁)/(h − B₁)) has its minimum at
 // h − B₁ = t·SE(B₁) and rises below it, to above the discharge of gauge
-// heights far higher (a trial's rating: 3.7 m³/s at 6 mm above zero flow,
-// for a discharge of 0.0012). A band there would be read as a bound, so
+// heights far higher (in one fitted rating, 3.7 m³/s at 6 mm above zero
+// flow, for a discharge of 0.0012). A band there would be read as a bound, so
 // none is given.
 //
 // References:

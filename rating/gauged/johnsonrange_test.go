@@ -18,7 +18,7 @@ func TestJohnsonZeroFlowSE(t *testing.T) {
 	if want := 0.01 * math.Sqrt(33); math.Abs(got-want) > 1e-12 {
 		t.Errorf("SE %.15g, want %.15g", got, want)
 	}
-	g := []float64{3.5675, 4.4212, 5.3441} // the trial's three points, 5.5,9,13 ft
+	g := []float64{3.5675, 4.4212, 5.3441} // Johnson's three gauge heights (ft) of the Patuxent fit with breakpoints 5.5, 9 and 13 ft, below
 	var v float64
 	for i := range g {
 		up, dn := append([]float64(nil), g...), append([]float64(nil), g...)

@@ -23,8 +23,8 @@ func TestExponentWarningPlain(t *testing.T) {
 }
 
 // Johnson's estimate whose standard error is not known is not
-// determined, and its note gives no "± -" (the trial's figures: e =
-// 0.61 m from 0.9079 to 1.1996 m, depth 0.7 m; 25 % of it is 0.175 m).
+// determined, and its note gives no "± -" (the case: e = 0.61 m from
+// 0.9079 to 1.1996 m, a gauged depth of 0.7 m, of which 25 % is 0.175 m).
 func TestJohnsonJudgeUnknownSE(t *testing.T) {
 	for _, tc := range []struct {
 		name    string

@@ -336,7 +336,7 @@ func fitCurve(q func(float64) (float64, error), from, to float64, bFixed bool, b
 // bLow (the section's lowest point: a channel's flow cannot cease below
 // its bed; NaN for no bound). Over a range far above the bed, an
 // unbounded fit can trade the offset against the exponent without limit
-// (a trial: Q = 0.0000000039·(h + 6.9)^10.3 for an overbank control from
+// (as Q = 0.0000000039·(h + 6.9)^10.3 for an overbank control from
 // 2 to 4.8 m), a curve that fits the points and means nothing as a prior;
 // held at the bed, the offset gives the exponent of the section's own
 // shape there.

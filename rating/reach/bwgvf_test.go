@@ -141,7 +141,7 @@ func TestBackwaterOrderWarnings(t *testing.T) {
 		{"downstream first", true, [3]float64{101.3, 101.4, 101.5}, "the bed and the high-water marks both rise downstream over the reach (thalweg of P0 at 99.800, of P2 at 100.000 m; marks of P0 at 101.300, of P2 at 101.500 m): the reach is most likely listed downstream first"},
 		{"marks rise only", false, [3]float64{101.3, math.NaN(), 101.5}, "the high-water marks rise 0.2 m downstream over the reach (P0 at 101.300, P2 at 101.500 m), which a steady water surface does not"},
 		{"bed rises only, no marks", true, [3]float64{math.NaN(), math.NaN(), math.NaN()}, "the bed rises 0.2 m downstream over the reach (thalweg of P0 at 99.800, of P2 at 100.000 m): a riffle or weir below a pool does this"},
-		// Marks 1 mm higher downstream (the trial's rv-flatmarks.csv)
+		// Marks 1 mm higher downstream (a flat water surface surveyed)
 		// and 0.029 m higher lie within a good mark's band, 0.03 m
 		// (DefaultMarkSDSI, unrated marks): no rise.
 		{"marks 1 mm higher downstream", false, [3]float64{101.545, math.NaN(), 101.546}, ""},

@@ -173,8 +173,8 @@ func TestFitNamesSectionAsSection(t *testing.T) {
 }
 
 // A least-squares fit whose gaugings do not determine every parameter
-// (the delta method's JᵀWJ singular, as the trial's Patuxent fit with
-// breakpoints 7,12 ft was before its runaway exponent was refused) has
+// (the delta method's JᵀWJ singular, as a fit of the Patuxent gaugings
+// with breakpoints 7,12 ft was before its runaway exponent was refused) has
 // no standard errors: the text says each offset is fitted, or set by
 // continuity at its breakpoint, and says once why no standard errors are
 // given, instead of "(held)" beside a fitted offset and "± -" beside

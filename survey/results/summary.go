@@ -182,7 +182,68 @@ func WriteBackwaterSummary(w io.Writer, rep reach.BackwaterReport, path string) 
 		}
 	}
 	fmt.Fprintf(bw, ", %d of %s unsettled\n", unsettled, rating.Counted(len(r.Rating.Rows), "read", "reads"))
-	return endSummary(bw, rep.Warnings)
+	if v := BackwaterVerificationLine(rep); v != "" {
+		fmt.Fprintf(bw, "  %s\n", v)
+	}
+	return endBackwater(bw, rep.Warnings)
+}
+
+// WriteBackwaterConsole writes what the console says after a
+// step-backwater table written to standard output, which carries no
+// comment lines (CSV): the verification's line, the warnings, and the
+// caution with the step-backwater note.
+func WriteBackwaterConsole(w io.Writer, rep reach.BackwaterReport) error {
+	bw := bufio.NewWriter(w)
+	if v := BackwaterVerificationLine(rep); v != "" {
+		fmt.Fprintln(bw, v)
+	}
+	return endBackwater(bw, rep.Warnings)
+}
+
+// endBackwater is endSummary for a step-backwater report: the warnings,
+// then the caution with BackwaterNote before it, as the text report
+// states them.
+func endBackwater(w *bufio.Writer, warnings []string) error {
+	for _, s := range warnings {
+		fmt.Fprintln(w, "warning: "+s)
+	}
+	fmt.Fprintln(w, "caution: "+BackwaterNote)
+	fmt.Fprintln(w, "caution: "+rating.Caution)
+	return w.Flush()
+}
+
+// BackwaterVerificationLine sums up a step-backwater report's verification
+// in one line: the discharge, the sections with marks, the mean departure
+// and the largest, with its section, and how many lie outside their
+// marks' quality band; "" without a verification. The departure at each
+// section is in the text, JSON and workbook reports, not in the CSV table.
+func BackwaterVerificationLine(rep reach.BackwaterReport) string {
+	v := rep.Verification
+	if v == nil || len(v.Marks) == 0 {
+		return ""
+	}
+	u := rep.Result.Units
+	L := u.Length()
+	at := ""
+	for _, m := range v.Marks {
+		if m.Departure == v.MaxDeparture {
+			at = " at " + m.ID
+			break
+		}
+	}
+	outside := 0
+	for _, m := range v.Marks {
+		if m.Outside {
+			outside++
+		}
+	}
+	line := fmt.Sprintf("verification: the profile of %s %s against the high-water marks of %s: mean departure %s %s, largest %s %s%s",
+		rating.PlainFigures(v.Discharge, 4), u.Discharge(), rating.Counted(len(v.Marks), "section", "sections"),
+		saSigned3(v.MeanDeparture), L, saSigned3(v.MaxDeparture), L, at)
+	if outside > 0 {
+		line += fmt.Sprintf(", %d outside %s quality band", outside, rating.Agree(outside, "its", "their"))
+	}
+	return line + " (computed − mark)"
 }
 
 // MaxListed bounds how many failed sections a batch summary lists, and
