@@ -294,7 +294,7 @@ var trialWord = regexp.MustCompile(`(?i)\btrials?('s)?\b(\s+\S+)?`)
 // trialUses are the words that make "trial" the numerical term (a trial
 // stage of an iteration, the trials of a binomial count), not the
 // project's history.
-var trialUses = map[string]bool{"stage": true, "stages": true, "offset": true, "offsets": true, "value": true, "values": true,
+var trialUses = map[string]bool{"stage": true, "position": true, "positions": true, "stages": true, "offset": true, "offsets": true, "value": true, "values": true,
 	"point": true, "points": true, "set": true, "sets": true, "breakpoint": true, "breakpoints": true, "starting": true,
 	"zero-flow": true, "and": true}
 
