@@ -60,7 +60,8 @@ func fitBases() []gauged.Basis {
 // parametric_upper_95, else lower_95 and upper_95) and of one discharge
 // (total_lower_95 and total_upper_95), NaN where blank or absent. It
 // returns nil for a table with neither a basis nor an extrapolated
-// column (not a fit's). A basis no fit writes is ErrFitBasis, a bad
+// column (not a fit's). A basis no fit writes is ErrFitBasis, an extrapolated cell of another
+// word ErrExtrapolatedWord, a bad
 // bound a number error and a bound or hydraulic discharge beyond
 // ±rating.MaxDischarge ErrImplausible, each a *ParseError at its cell.
 func FitRowsFromTable(t *Table, rt rating.Table) ([]gauged.ControlRow, error) {
@@ -88,6 +89,9 @@ func FitRowsFromTable(t *Table, rt rating.Table) ([]gauged.ControlRow, error) {
 			if word != "" && strings.EqualFold(word, b.String()) {
 				r.Basis, known = b, true
 			}
+		}
+		if x := t.Cell(rec, cx); cx >= 0 && !yesWord(x) && !noWord(x) {
+			cells.errs = append(cells.errs, t.At(rec, cx, fmt.Errorf("%q: %w", x, ErrExtrapolatedWord)))
 		}
 		switch {
 		case word != "" && !known:

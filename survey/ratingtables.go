@@ -113,6 +113,10 @@ type RatingTables struct {
 // table that has a valid_from column.
 var ErrValidFromBlank = errors.New("the first row of a table with a valid_from column needs a time")
 
+// ErrExtrapolatedWord is the cause of an extrapolated cell that is neither
+// a yes word (yes, y, true, 1) nor a no word (no, n, false, 0, blank).
+var ErrExtrapolatedWord = errors.New("an extrapolated cell is yes, y, true or 1 on a row above the highest gauging, no, n, false, 0 or blank on the others")
+
 // validFromReader reads the times of a valid_from column (col) as
 // RatingTablesFromTable and RatingFromTable read them: cellTimeZone at the
 // offset off (seconds), or zonedTime beside a time-zone column, every time
@@ -253,8 +257,12 @@ func RatingTablesFromTable(t *Table, opt RatingTableOptions) (RatingTables, erro
 		h, errh := t.number(rec, cs, "stage", MaxElevation)
 		q, errq := t.number(rec, cq, "discharge", rating.MaxDischarge)
 		depth, errd := t.depth(rec, cd)
-		errs.add(errh, errq, errd)
-		if errh == nil && errq == nil && errd == nil {
+		var errx *ParseError
+		if cx >= 0 && !yesWord(t.Cell(rec, cx)) && !noWord(t.Cell(rec, cx)) {
+			errx = t.At(rec, cx, fmt.Errorf("%q: %w", t.Cell(rec, cx), ErrExtrapolatedWord))
+		}
+		errs.add(errh, errq, errd, errx)
+		if errh == nil && errq == nil && errd == nil && errx == nil {
 			g.points = append(g.points, gauged.RatingPoint{Stage: rating.DecimalDifference(h, opt.Datum), Discharge: q})
 			g.depths = append(g.depths, depth)
 			g.recs = append(g.recs, rec)
@@ -568,6 +576,15 @@ func (f Foot) Warning(at func(int) string) string {
 func yesWord(s string) bool {
 	switch strings.ToLower(strings.TrimSpace(s)) {
 	case "yes", "y", "true", "1":
+		return true
+	}
+	return false
+}
+
+// noWord reports a written no: no, n, false, 0 or blank, in any case.
+func noWord(s string) bool {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "", "no", "n", "false", "0":
 		return true
 	}
 	return false
