@@ -122,7 +122,8 @@ type jsonVerification struct {
 //
 // Keys after these are added, never between them: "units", "reach",
 // "program", "expansion", "contraction" (the eddy-loss coefficients),
-// "verification" (null unless asked for), "site" and, where a section's
+// "verification" (null unless asked for), "site", "note" (BackwaterNote,
+// stated beside the caution as in the text report) and, where a section's
 // survey was given in coordinates, "survey_notes" ([{"section", "note"}]:
 // how its stations were made), and last "input_notes" when the inputs
 // have notes (a boundary rating table naming no unit). The rating's
@@ -146,6 +147,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Contraction  Float             `json:"contraction"`
 		Verification *jsonVerification `json:"verification"`
 		Site         *jsonSite         `json:"site"`
+		Note         string            `json:"note"`
 		SurveyNotes  []jsonSurveyNote  `json:"survey_notes,omitempty"`
 		InputNotes   []string          `json:"input_notes,omitempty"`
 	}{
@@ -155,7 +157,7 @@ func WriteBackwaterJSON(w io.Writer, rep reach.BackwaterReport) error {
 		Warnings: nonNil(rep.Warnings), Caution: rating.Caution, Units: UnitNames(r.Units),
 		Reach: rep.Name, Program: programName(rep.Provenance),
 		Expansion: Float(r.Expansion), Contraction: Float(r.Contraction), Site: siteJSON(rep.Provenance.Site),
-		InputNotes: rep.Provenance.Notes,
+		Note: BackwaterNote, InputNotes: rep.Provenance.Notes,
 	}
 	for i, p := range r.Profiles {
 		out.Profiles[i] = bwJSONProfile(p)

@@ -114,6 +114,10 @@ func TestWriteBackwaterJSONOrder(t *testing.T) {
 	if v := field("verification", "marks", 0); !bytes.Contains(v, []byte(`"outside"`)) {
 		t.Errorf("verification mark %s", v)
 	}
+	var note string
+	if err := json.Unmarshal(field("note"), &note); err != nil || note != results.BackwaterNote {
+		t.Errorf("note %q (%v), want the step-backwater note", note, err)
+	}
 }
 
 // The CSV is a rating table that reads back as one: the rating reader of

@@ -85,7 +85,8 @@ type jsonUncertainty struct {
 // {"method","discharge","units","side","fall","length","slope",
 // "subreach_min","subreach_max","subreach_spread","sections":[...],
 // "subreaches":[...],"checks":[...],"uncertainty":{...} or null,
-// "warnings":[...],"caution"}. Each section holds "subsections", its
+// "warnings":[...],"caution","site","note"}, note the caution's word on
+// indirect estimates (rating.IndirectNote). Each section holds "subsections", its
 // subsections at the peak discharge (from_station, to_station, region, n,
 // area, wetted_perimeter, top_width, conveyance, discharge, mean_velocity,
 // as in WriteRatingJSON). Each subreach ends with "flow", "expanding",
@@ -116,12 +117,14 @@ func WriteSlopeAreaJSON(w io.Writer, rep reach.Report) error {
 		Warnings       []string         `json:"warnings"`
 		Caution        string           `json:"caution"`
 		Site           *jsonSite        `json:"site"`
+		Note           string           `json:"note"`
 	}{
 		Method: r.Method, Discharge: Float(r.Discharge), Units: UnitNames(r.Units), Side: r.Side.String(),
 		Fall: Float(r.Fall), Length: Float(r.Length), Slope: Float(r.Slope),
 		SubreachMin: Float(r.SubreachMin), SubreachMax: Float(r.SubreachMax), SubreachSpread: Float(r.SubreachSpread),
 		Sections: []jsonSASection{}, Subreaches: []jsonSubreach{}, Checks: []jsonCheck{},
 		Warnings: rep.Warnings, Caution: rating.Caution, Site: siteJSON(rep.Provenance.Site),
+		Note: rating.IndirectNote,
 	}
 	if out.Warnings == nil {
 		out.Warnings = []string{}

@@ -2,6 +2,7 @@ package results_test
 
 import (
 	"bytes"
+	"encoding/json"
 	"fmt"
 	"math"
 	"strings"
@@ -155,6 +156,10 @@ func TestSlopeAreaFlowWords(t *testing.T) {
 	}
 	if err := results.WriteSlopeAreaJSON(&js, reach.Report{Result: res}); err != nil {
 		t.Fatal(err)
+	}
+	var notes struct{ Caution, Note string }
+	if err := json.Unmarshal(js.Bytes(), &notes); err != nil || notes.Caution != rating.Caution || notes.Note != rating.IndirectNote {
+		t.Errorf("caution %q, note %q (%v): want the caution and the note on indirect estimates", notes.Caution, notes.Note, err)
 	}
 	for i, want := range []string{"uniform", "contracting", "expanding"} {
 		sr := res.Subreaches[i]
