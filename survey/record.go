@@ -285,6 +285,11 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		return err
 	}
 	t := &Table{File: b.file, Sheet: b.sheet, Header: h, HeaderRow: row}
+	if title, ok := oneCell(h); ok && t.Column(ColRecordTime, ColRecordStage, ColGaugeHeight) < 0 {
+		// A record needs a time and a stage: a header of one cell naming
+		// neither is a title above the header.
+		return titleRowError(b.file, b.sheet, row, title, 0)
+	}
 	var err error
 	if b.ct, err = t.Require(ColRecordTime); err != nil {
 		return err
@@ -314,6 +319,19 @@ func (b *stageBuilder) setHeader(h []string, row, sizeHint int) error {
 		b.quality = map[string]uint16{"": 0}
 	}
 	return nil
+}
+
+// oneCell returns the only filled cell of a row (ok false unless exactly
+// one is filled).
+func oneCell(h []string) (string, bool) {
+	var only string
+	n := 0
+	for _, c := range h {
+		if strings.TrimSpace(c) != "" {
+			only, n = c, n+1
+		}
+	}
+	return only, n == 1
 }
 
 // fail records a bad cell.

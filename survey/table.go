@@ -434,6 +434,7 @@ var ErrTitleRow = errors.New("holds one cell and is not a header")
 // titleRowError is the ParseError (ErrTitleRow) at the one cell, title,
 // of the row taken for the header (headerRow), when the first row below
 // it (row) holds cells beyond it: no table has a header of one column.
+// A reader that streams its rows, and so cannot look below, gives row 0.
 // It says how to keep the title: as a site key (a key–value row, or a
 // "# site:" line in CSV; see MetaKeys).
 func titleRowError(file, sheet string, headerRow int, title string, row int) *ParseError {
@@ -444,9 +445,13 @@ func titleRowError(file, sheet string, headerRow int, title string, row int) *Pa
 		b1, _ := excelize.CoordinatesToCellName(2, headerRow)
 		keep = fmt.Sprintf("%s in %s, the name in %s, each in a cell of its own", MetaSite, a1, b1)
 	}
+	below := fmt.Sprintf(" (row %d below it holds more)", row)
+	if row <= 0 {
+		below = ""
+	}
 	return &ParseError{File: file, Sheet: sheet, Row: headerRow, Column: 1,
-		Err: fmt.Errorf("a title? row %d (%q) %w (row %d below it holds more): delete it, or write it as a site key row: %s",
-			headerRow, shown, ErrTitleRow, row, keep)}
+		Err: fmt.Errorf("a title? row %d (%q) %w%s: delete it, or write it as a site key row: %s",
+			headerRow, shown, ErrTitleRow, below, keep)}
 }
 
 // headerLike reports a row that reads as a header: no filled cell of it

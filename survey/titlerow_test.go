@@ -88,3 +88,29 @@ func TestTitleRowAboveHeader(t *testing.T) {
 		t.Errorf("a site key row: %v, site %q", err, sv.Site.Name)
 	}
 }
+
+// A stage record is read as a stream, so a title above its header is
+// known by its one cell naming neither time nor stage; a header of one
+// column that is a record's own (stage alone) is still a missing time.
+func TestTitleRowAboveStageRecord(t *testing.T) {
+	dir := t.TempDir()
+	for _, tc := range []struct {
+		body  string
+		title bool
+	}{
+		{"Pike Run at the weir - 15-minute stages\ntime,stage\n2024-01-01T00:00,0.5\n", true},
+		{"stage\n0.5\n", false},
+	} {
+		path := filepath.Join(dir, "rec.csv")
+		if err := os.WriteFile(path, []byte(tc.body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := ReadStageRecord(path, StageRecordOptions{})
+		if got := errors.Is(err, ErrTitleRow); got != tc.title {
+			t.Errorf("%q: error %v, title %v, want %v", tc.body, err, got, tc.title)
+		}
+		if tc.title && (err == nil || !strings.Contains(err.Error(), "rec.csv:1:1") || !strings.Contains(err.Error(), "site,Pike Run")) {
+			t.Errorf("%q: error %v: want it at row 1 with the site key row to write", tc.body, err)
+		}
+	}
+}
