@@ -252,11 +252,14 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 }
 
 // groundPoints returns the ground line of a geometry that has one (a
-// surveyed section, a shape, either with its n scaled), else nil.
+// surveyed section, a shape, either with its n scaled or composite),
+// else nil.
 func groundPoints(g subdivide.Geometry) []subdivide.Point {
 	switch p := g.(type) {
 	case ScaledN:
 		return groundPoints(p.Geometry)
+	case *compositeGeometry:
+		return groundPoints(p.inner)
 	case interface{ Points() []subdivide.Point }:
 		return p.Points()
 	}
