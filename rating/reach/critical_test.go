@@ -15,8 +15,8 @@ import (
 func pocketSection(t *testing.T) subdivide.Geometry {
 	t.Helper()
 	p, err := subdivide.Compile(subdivide.Section{Name: "pocket",
-		Points: subdivide.XZ(0, 3.55, 20, 3.6, 30, 3.9, 35, 4.6, 40, 3.5, 42, 1.0, 46, 0.8, 48, 1.2, 50, 3.5, 80, 3.7, 110, 4.2, 130, 5.0),
-		N:      []float64{0.05, 0.05, 0.05, 0.05, 0.03, 0.03, 0.03, 0.03, 0.08, 0.08, 0.08},
+		Points:   subdivide.XZ(0, 3.55, 20, 3.6, 30, 3.9, 35, 4.6, 40, 3.5, 42, 1.0, 46, 0.8, 48, 1.2, 50, 3.5, 80, 3.7, 110, 4.2, 130, 5.0),
+		N:        []float64{0.05, 0.05, 0.05, 0.05, 0.03, 0.03, 0.03, 0.03, 0.08, 0.08, 0.08},
 		HasBanks: true, LeftBank: 40, RightBank: 50})
 	if err != nil {
 		t.Fatal(err)
