@@ -483,7 +483,12 @@ func (s solver) sectionFactor(h, q float64) (float64, Row, error) {
 // (Chow, 1959, section 4-2 and eq. 4-4). In a prismatic section there is
 // one; in a compound section α jumps above bankfull and there can be two
 // or three (Blalock & Sturm, 1981, J. Hydraulics Div. ASCE 107(HY6)). The
-// stage range is scanned for sign changes and each is refined. Rising is
+// range searched (criticalRange) reaches the stage at which all the
+// ground is wet, above the lower end where the flow spreads over ground
+// behind it, and goes on above between the walls at the ends until a
+// bound holds every higher stage subcritical; a conduit is searched to
+// its crown, and a survey with Options.NoExtend to its top. The range
+// is scanned for sign changes and each is refined. Rising is
 // true where the Froude number falls as stage rises (a minimum of specific
 // energy).
 //
@@ -680,8 +685,9 @@ func (s solver) energy(h, q float64) (float64, error) {
 // energy of discharge q in g. With α constant the minimum lies at the
 // critical depth (Chow, 1959, section 3-2); where α varies with stage the
 // energy itself is minimised: the range up to the highest critical stage
-// (doubled in depth, or to the section's top when that is lower but at
-// least a quarter of that depth above it) is scanned and each local
+// (doubled in depth, or to the stage at which all the ground is wet when
+// that is lower but at least a quarter of that depth above it) is
+// scanned and each local
 // minimum refined by golden-section search; the least is returned. The
 // scan never goes above the top where the geometry refuses such a stage
 // (a conduit's crown, a survey with Options.NoExtend): it stops there.
