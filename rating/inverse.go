@@ -483,7 +483,12 @@ func (s solver) sectionFactor(h, q float64) (float64, Row, error) {
 // (Chow, 1959, section 4-2 and eq. 4-4). In a prismatic section there is
 // one; in a compound section α jumps above bankfull and there can be two
 // or three (Blalock & Sturm, 1981, J. Hydraulics Div. ASCE 107(HY6)). The
-// stage range is scanned for sign changes and each is refined. Rising is
+// range searched (criticalRange) reaches the stage at which all the
+// ground is wet, above the lower end where the flow spreads over ground
+// behind it, and goes on above between the walls at the ends until a
+// bound holds every higher stage subcritical; a conduit is searched to
+// its crown, and a survey with Options.NoExtend to its top. The range
+// is scanned for sign changes and each is refined. Rising is
 // true where the Froude number falls as stage rises (a minimum of specific
 // energy).
 //
@@ -505,8 +510,130 @@ func CriticalStages(g subdivide.Geometry, q float64, opt Options) ([]Root, error
 		v, _, err := s.sectionFactor(h, q)
 		return v, err
 	}
-	return s.solve(f, func(h float64) (bool, error) { v, err := f(h); return v >= 0, err },
-		target{what: fmt.Sprintf("critical flow of %g %s", q, opt.Units.Discharge())})
+	lo, wet, hi, err := s.criticalRange(groundPoints(g), q)
+	if err != nil {
+		return nil, err
+	}
+	roots, err := findRoots(f, lo, wet)
+	if err != nil {
+		return nil, err
+	}
+	if hi > wet {
+		// Above the stage at which all the ground is under water the
+		// section is smooth: scanned on its own, in as many steps.
+		upper, err := findRoots(f, wet, hi)
+		if err != nil {
+			return nil, err
+		}
+		for _, r := range upper {
+			r.Depth = r.Stage - lo
+			if n := len(roots); n > 0 && roots[n-1].Stage == r.Stage {
+				continue
+			}
+			roots = append(roots, r)
+		}
+	}
+	if len(roots) == 0 {
+		return nil, s.noRoot(target{what: fmt.Sprintf("critical flow of %g %s", q, opt.Units.Discharge())}, lo, hi)
+	}
+	return roots, nil
+}
+
+// criticalRange returns the stages between which CriticalStages looks
+// for the critical stages of q: from the lowest point lo to hi, the
+// range split at wet. A closed conduit is searched to its crown (wet and
+// hi both the crown), and a section whose geometry refuses a stage above
+// its top (Options.NoExtend) to its top. Otherwise wet is the stage at
+// which all the ground is under water: the highest point of the ground
+// line pts (at least the higher end), or the top where pts is nil. Below
+// it a stretch of the section may carry no water at the lower end's
+// stage and join the flow above it, so the Froude number can pass 1
+// again there however it stands at the lower end. Above wet nothing new
+// is wetted: the top width is constant between the vertical walls raised
+// at the ends, or, with a built shape's sides continued, grows linearly
+// with stage at rate s. There the search goes on, doubling the depth at
+// most MaxSearchDoublings times, until at hi
+//
+//	g·A·a²/T > Q²,  with  T² ≥ A·s,
+//
+// where a is the least area of the subsections of positive width. That
+// bound holds q subcritical at every stage above hi: with vᵢ = Kᵢ/Aᵢ,
+// α·Q²·T/(g·A³) = 1 means Q² = g·A·K³/(T·ΣAᵢvᵢ³), and ΣAᵢvᵢ³ ≤ v²max·K and
+// K ≥ a·vmax give Q² ≥ g·A·a²/T; no subsection's area falls as the stage
+// rises, and A/T does not fall when T² ≥ A·s, so the bound never falls
+// above hi (Chow, 1959, section 4-2, for the critical condition; the
+// bound is this package's).
+func (s solver) criticalRange(pts []subdivide.Point, q float64) (lo, wet, hi float64, err error) {
+	lo, top := s.g.Bottom(), s.g.Top()
+	closed, err := s.closed()
+	if err != nil || closed {
+		return lo, top, top, err
+	}
+	want := s.allWet(pts)
+	if wet, err = s.ceiling(want); err != nil || wet < want {
+		return lo, wet, wet, err
+	}
+	hi = wet
+	for k := 0; k <= MaxSearchDoublings; k++ {
+		next := lo + 2*(hi-lo)
+		up, err := s.ceiling(next)
+		if err != nil {
+			return lo, wet, hi, err
+		}
+		clear, err := s.subcriticalAbove(hi, next, q)
+		if err != nil || clear || up < next || k == MaxSearchDoublings {
+			return lo, wet, hi, err
+		}
+		hi = next
+	}
+	return lo, wet, hi, nil
+}
+
+// allWet returns the stage at which all the ground of ground line pts
+// is under water: its highest point, at least the top (the lower end),
+// and the top where pts is nil (a built shape's top is its highest
+// point). A section of no height is given one length unit.
+func (s solver) allWet(pts []subdivide.Point) float64 {
+	lo, wet := s.g.Bottom(), s.g.Top()
+	for _, p := range pts {
+		wet = math.Max(wet, p.Elevation)
+	}
+	if !(wet > lo) {
+		wet = lo + 1
+	}
+	return wet
+}
+
+// subcriticalAbove reports whether the bound of criticalRange holds q
+// subcritical at every stage above h, with the top width's rate of growth
+// above h taken from the stages h and next above it.
+func (s solver) subcriticalAbove(h, next, q float64) (bool, error) {
+	r, err := s.row(h)
+	if err != nil {
+		return false, err
+	}
+	w, err := s.g.At(next, s.opt.Geometry)
+	if errors.Is(err, subdivide.ErrAboveEnds) {
+		// No stage above h is computed: nothing there to be critical.
+		return true, nil
+	}
+	if err != nil {
+		return false, err
+	}
+	if !(r.Area > 0) || !(r.TopWidth > 0) {
+		return false, nil
+	}
+	least := math.Inf(1)
+	for _, sub := range r.Subs {
+		if sub.To > sub.From {
+			least = math.Min(least, sub.Area)
+		}
+	}
+	rate := math.Max(0, (w.TopWidth-r.TopWidth)/(next-h))
+	if !(least > 0) || math.IsInf(least, 1) || r.TopWidth*r.TopWidth < r.Area*rate {
+		return false, nil
+	}
+	return s.opt.Units.Gravity()*r.Area*least*least/r.TopWidth > q*q, nil
 }
 
 // CriticalDischarge returns the discharge that is critical at a stage,
@@ -558,8 +685,9 @@ func (s solver) energy(h, q float64) (float64, error) {
 // energy of discharge q in g. With α constant the minimum lies at the
 // critical depth (Chow, 1959, section 3-2); where α varies with stage the
 // energy itself is minimised: the range up to the highest critical stage
-// (doubled in depth, or to the section's top when that is lower but at
-// least a quarter of that depth above it) is scanned and each local
+// (doubled in depth, or to the stage at which all the ground is wet when
+// that is lower but at least a quarter of that depth above it) is
+// scanned and each local
 // minimum refined by golden-section search; the least is returned. The
 // scan never goes above the top where the geometry refuses such a stage
 // (a conduit's crown, a survey with Options.NoExtend): it stops there.
@@ -608,12 +736,14 @@ func scanSpecificEnergy(g subdivide.Geometry, q float64, opt Options) (EnergyPoi
 	// Up to twice the depth of the highest critical stage, and never to
 	// less than a quarter of that depth above it: a minimum at that stage
 	// must lie inside the scan, which finds only interior minima, even
-	// when it stands in the walls above the section's ends. Where the
-	// geometry refuses a stage above its top (a conduit's crown, a survey
-	// with Options.NoExtend) the scan stops at the top, and a minimum in
-	// its last step is looked for there (below).
+	// when it stands in the walls above the section's ends. Within that,
+	// on up to the stage at which all the ground is wet (allWet), where a
+	// stretch joining the flow can change α. Where the geometry refuses a
+	// stage above its top (a conduit's crown, a survey with
+	// Options.NoExtend) the scan stops at the top, and a minimum in its
+	// last step is looked for there (below).
 	hc := crit[len(crit)-1].Stage
-	want := math.Min(lo+2*(hc-lo), math.Max(hc+(hc-lo)/4, s.g.Top()))
+	want := math.Min(lo+2*(hc-lo), math.Max(hc+(hc-lo)/4, s.allWet(groundPoints(g))))
 	hi, err := s.ceiling(want)
 	if err != nil {
 		return EnergyPoint{}, nil, err

@@ -265,6 +265,72 @@ func TestCompoundCriticalDepths(t *testing.T) {
 	}
 }
 
+// TestCriticalStagesAboveLowerEnd: the compound section of
+// compoundFroude2 surveyed with its left floodplain ending level with the
+// floodplain, so that the section's top (its lower end) is bankfull and
+// the floodplain walls above it are the vertical wall raised at the left
+// end and the surveyed wall at the right end. Every critical stage over
+// the floodplains lies above the lower end and must be found, as a fine
+// brute-force scan of the closed form finds them (critical condition
+// Chow, 1959, section 4-2; two or more critical depths in a compound
+// channel, Blalock & Sturm, 1981, J. Hydraulics Div. ASCE 107(HY6), from
+// memory). With NoExtend the search stops at the lower end.
+func TestCriticalStagesAboveLowerEnd(t *testing.T) {
+	const b, d, f, nc, nf = 4.0, 2.0, 40.0, 0.03, 0.06
+	sec := subdivide.Section{Name: "low left end",
+		Points: subdivide.XZ(0, d, f, d, f, 0, f+b, 0, f+b, d, 2*f+b, d, 2*f+b, 8),
+		N:      []float64{nf, nc, nc, nc, nf, nf},
+		// Banks at the channel's top corners, so that the subsections are
+		// the floodplains and the channel, as in the closed form.
+		HasBanks: true, LeftBank: f, RightBank: f + b}
+	g, err := subdivide.Compile(sec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if g.Top() != d {
+		t.Fatalf("top %g, want the lower end %g", g.Top(), d)
+	}
+	for _, q := range []float64{10, 20, 30} {
+		const m = 200000
+		const top = 8.0
+		var want []float64
+		prev := compoundFroude2(top/m, q, b, d, f, nc, nf) - 1
+		for i := 2; i <= m; i++ {
+			y := top * float64(i) / m
+			v := compoundFroude2(y, q, b, d, f, nc, nf) - 1
+			if (v < 0) != (prev < 0) {
+				want = append(want, y)
+			}
+			prev = v
+		}
+		if len(want) < 2 || want[len(want)-1] <= d {
+			t.Fatalf("Q %g: the closed form has no critical depth above bankfull: %v", q, want)
+		}
+		roots, err := CriticalStages(g, q, Options{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(roots) != len(want) {
+			t.Fatalf("Q %g: %d critical stages %+v, brute force %v", q, len(roots), roots, want)
+		}
+		for i, r := range roots {
+			if math.Abs(r.Depth-want[i]) > top/m {
+				t.Errorf("Q %g: critical depth %g, brute force %g", q, r.Depth, want[i])
+			}
+		}
+		// With no stage above the lower end computed, only those below.
+		roots, err = CriticalStages(g, q, Options{Geometry: subdivide.Options{NoExtend: true}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, r := range roots {
+			if r.Stage > d {
+				t.Errorf("Q %g, NoExtend: critical stage %g above the top %g", q, r.Stage, d)
+			}
+		}
+	}
+}
+
 // randomSection returns a random geometry: a built shape or a random
 // surveyed ground line with n changing along it.
 func randomSection(rng *rand.Rand, i int) (subdivide.Geometry, string) {

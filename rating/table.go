@@ -242,6 +242,9 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	for _, j := range t.Joins {
 		t.Warnings = append(t.Warnings, JoinWarning(j, opt.Units))
 	}
+	if w := ChannelLowWarning(t.Subsections, groundPoints(g), opt.Units); w != "" && !opt.Geometry.AllPools {
+		t.Warnings = append(t.Warnings, w)
+	}
 	if w := AlternatingChannelWarning(t.Subsections, groundPoints(g)); w != "" && opt.Composite == Split {
 		t.Warnings = append(t.Warnings, w)
 	}
@@ -251,12 +254,51 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	return t, nil
 }
 
+// ChannelLowWarning words the warning for bank stations that leave the
+// section's lowest point outside the main channel (the subsections of
+// region Channel of subs), or "" when the channel holds it or pts is nil.
+// Water is counted as flowing only in the pool that holds the channel's
+// lowest ground and in what joins it (subdivide.Options, unless every
+// pool is counted), so below that ground nothing flows and the deepest
+// water stands in pockets.
+func ChannelLowWarning(subs []subdivide.Subsection, pts []subdivide.Point, u Units) string {
+	from, to := math.Inf(1), math.Inf(-1)
+	for _, s := range subs {
+		if s.Region == subdivide.Channel {
+			from, to = math.Min(from, s.From), math.Max(to, s.To)
+		}
+	}
+	if len(pts) == 0 || !(to >= from) {
+		return ""
+	}
+	low, in := pts[0], math.Min(subdivide.GroundAt(pts, from), subdivide.GroundAt(pts, to))
+	for _, p := range pts {
+		if p.Elevation < low.Elevation {
+			low = p
+		}
+		if p.Station >= from && p.Station <= to {
+			in = math.Min(in, p.Elevation)
+		}
+	}
+	if !(in > low.Elevation) {
+		return ""
+	}
+	L := u.Length()
+	return fmt.Sprintf("the main channel between the bank stations %.6g and %.6g %s does not hold the section's lowest point (%.6g %s at station %.6g %s): "+
+		"water is counted as flowing only where it joins the water between the banks, so below the channel's lowest ground, %.6g %s, nothing flows "+
+		"and the deepest water stands in pockets (flagged pools); check the bank stations",
+		from, to, L, low.Elevation, L, low.Station, L, in, L)
+}
+
 // groundPoints returns the ground line of a geometry that has one (a
-// surveyed section, a shape, either with its n scaled), else nil.
+// surveyed section, a shape, either with its n scaled or composite),
+// else nil.
 func groundPoints(g subdivide.Geometry) []subdivide.Point {
 	switch p := g.(type) {
 	case ScaledN:
 		return groundPoints(p.Geometry)
+	case *compositeGeometry:
+		return groundPoints(p.inner)
 	case interface{ Points() []subdivide.Point }:
 		return p.Points()
 	}

@@ -23,6 +23,15 @@ const rowTol = 1e-9
 // stage by stage with At, the reference engine.
 type clipOnly struct{ subdivide.Geometry }
 
+// Points passes on the ground line, of which Compute warns whichever
+// engine rates the stages.
+func (c clipOnly) Points() []subdivide.Point {
+	if p, ok := c.Geometry.(*subdivide.Profile); ok {
+		return p.Points()
+	}
+	return nil
+}
+
 // Joins passes on the ground line's joins, which Compute warns of
 // whichever engine rates the stages.
 func (c clipOnly) Joins() []subdivide.Join {
@@ -270,5 +279,47 @@ func TestStagesRaisedWording(t *testing.T) {
 	_, warn, err := rating.StageSpec{MinStep: 1e-4}.StagesWarn(g)
 	if err != nil || len(warn) != 1 || !strings.Contains(warn[0], "its round step, 5e-06, is finer than 0.0001") {
 		t.Errorf("warnings %q (%v)", warn, err)
+	}
+}
+
+// TestChannelLowWarning: bank stations that leave the lowest point
+// outside the main channel are warned of, and the rows bear the warning
+// out: at a stage below the channel's lowest ground nothing flows, though
+// the section holds water (the pool at the lowest point is left out, as
+// subdivide.Options says of water apart from the main channel). Banks
+// holding the lowest point, or none, are not warned of.
+func TestChannelLowWarning(t *testing.T) {
+	pts := subdivide.XZ(0, 5, 8, 1, 12, 3, 14, 2.5, 16, 3.2, 30, 5)
+	for _, tc := range []struct {
+		name        string
+		banks       bool
+		left, right float64
+		warned      bool
+	}{
+		{"lowest point left of the banks", true, 12, 16, true},
+		{"banks hold the lowest point", true, 4, 16, false},
+		{"no banks", false, 0, 0, false},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			p, err := subdivide.Compile(subdivide.Section{Points: pts, N: []float64{0.04, 0.04, 0.03, 0.03, 0.04},
+				HasBanks: tc.banks, LeftBank: tc.left, RightBank: tc.right})
+			if err != nil {
+				t.Fatal(err)
+			}
+			tab, err := rating.Compute(p, []float64{2, 4}, rating.Options{Slope: 0.001})
+			if err != nil {
+				t.Fatal(err)
+			}
+			warned := false
+			for _, w := range tab.Warnings {
+				warned = warned || strings.Contains(w, "does not hold the section's lowest point")
+			}
+			if warned != tc.warned {
+				t.Errorf("warned %v, want %v: %q", warned, tc.warned, tab.Warnings)
+			}
+			if r := tab.Rows[0]; tc.warned && (r.Area != 0 || r.PondedArea <= 0) {
+				t.Errorf("stage 2 below the channel's lowest ground 2.5: area %g, ponded %g; want none flowing, some ponded", r.Area, r.PondedArea)
+			}
+		})
 	}
 }

@@ -481,15 +481,53 @@ func (r *bwRun) start(b Boundary, q float64, warns *[]string) (float64, bool, er
 		return h, false, &SectionError{Index: n - 1, ID: r.secs[n-1].ID, Field: "geometry", Err: err}
 	}
 	if st.froude(q, r.u) > 1 {
-		c, err := r.criticalStart(q)
+		c, w, err := r.supercriticalStart(h, b, q)
 		if err != nil {
 			return h, false, err
 		}
-		*warns = append(*warns, fmt.Sprintf("the boundary stage %.3f %s (%s) is below critical depth at %s: the profile starts at critical depth, %.3f %s",
-			h, r.u.Length(), b.Kind, r.secs[n-1].ID, c, r.u.Length()))
+		*warns = append(*warns, w)
 		return c, true, nil
 	}
 	return h, false, nil
+}
+
+// supercriticalStart returns the start of a profile whose boundary stage
+// h at the last section is supercritical, with the note saying so. Below
+// every critical stage of q the profile starts at critical depth (the
+// critical stage of least specific energy, criticalStart). A compound
+// section can have several critical stages, and h can lie in a
+// supercritical band between two of them, above critical depth: the
+// profile then starts at the critical stage at the foot of the nearest
+// subcritical band above h, the least raise of the boundary stage that
+// makes it subcritical.
+func (r *bwRun) supercriticalStart(h float64, b Boundary, q float64) (float64, string, error) {
+	n := len(r.secs)
+	u, id := r.u.Length(), r.secs[n-1].ID
+	cr, err := r.criticals(n-1, q)
+	if err != nil {
+		return h, "", &SectionError{Index: n - 1, ID: id, Field: "geometry", Err: err}
+	}
+	below := -1 // the highest critical stage below h
+	for i, c := range cr {
+		if c.h < h {
+			below = i
+		}
+	}
+	if below >= 0 {
+		for _, c := range cr[below+1:] {
+			if c.rising {
+				return c.h, fmt.Sprintf("the boundary stage %.3f %s (%s) is supercritical at %s, in a band between its critical stages %.3f and %.3f %s "+
+					"(the section is compound and flow passes through critical more than once): the profile starts at %.3f %s, "+
+					"the critical stage at the foot of the subcritical flow above it", h, u, b.Kind, id, cr[below].h, c.h, u, c.h, u), nil
+			}
+		}
+	}
+	c, err := r.criticalStart(q)
+	if err != nil {
+		return h, "", err
+	}
+	return c, fmt.Sprintf("the boundary stage %.3f %s (%s) is below critical depth at %s: the profile starts at critical depth, %.3f %s",
+		h, u, b.Kind, id, c, u), nil
 }
 
 // normalStage returns the highest normal stage of q at slope s in the last
@@ -858,7 +896,8 @@ func (r *bwRun) summary(ps []SurfaceProfile, rt BackwaterRating) []string {
 			rating.Counted(jumps, "section stage", "section stages"), worst, u.Length()))
 	}
 	if starts > 0 {
-		out = append(out, fmt.Sprintf("%s the boundary stage is below critical depth: those profiles start at critical depth", atOf(starts, len(ps))))
+		out = append(out, fmt.Sprintf("%s the boundary stage is supercritical (below critical depth, or between two critical stages of a compound section): "+
+			"those profiles start at a critical stage (see the profiles' notes)", atOf(starts, len(ps))))
 	}
 	if third > 0 {
 		out = append(out, fmt.Sprintf("%s no stage tried between the two starts is subcritical: "+
