@@ -3,6 +3,7 @@ package gauged
 import (
 	"errors"
 	"math"
+	"strconv"
 
 	"wetline/rating"
 	"wetline/subdivide"
@@ -394,14 +395,15 @@ func fitPoints(h, y []float64, bFixed bool, b0 float64) (lnA, c, b float64, err 
 // an overbank first wets: a scan, then bisection to this tolerance
 // (length unit).
 const (
-	bankStageSteps = 400
-	bankStageTol   = 1e-6
+	bankStageSteps    = 400
+	bankStageTol      = 1e-6
+	bankStageDecimals = 6 // the decimals of bankStageTol
 )
 
 // BankStage returns the gauge height at which water first reaches an
 // overbank subsection of the section (the lower bank), by a scan of the
-// section's depth and bisection; ok is false for a section without
-// overbanks.
+// section's depth and bisection to 1e-6 of the length unit, written to
+// that resolution; ok is false for a section without overbanks.
 func BankStage(c rating.HydraulicCurve) (h float64, ok bool, err error) {
 	g := c.Geometry
 	wet := func(stage float64) (bool, error) {
@@ -438,7 +440,15 @@ func BankStage(c rating.HydraulicCurve) (h float64, ok bool, err error) {
 					a = m
 				}
 			}
-			return a - c.Datum, true, nil
+			// The bracket is bankStageTol wide: its midpoint, written to
+			// that resolution, is the stage (a bank surveyed at 102.0 m is
+			// 102, not 101.9999997), as a gauge height to the datum's
+			// decimals.
+			mid, err := strconv.ParseFloat(strconv.FormatFloat(0.5*(a+b), 'f', bankStageDecimals, 64), 64)
+			if err != nil {
+				return 0, false, err
+			}
+			return rating.DecimalDifference(mid, c.Datum), true, nil
 		}
 		prev = s
 	}

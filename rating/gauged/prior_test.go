@@ -115,12 +115,13 @@ func TestCrestPriorNoExtend(t *testing.T) {
 }
 
 // The bank stage of a built compound section is its main channel's depth
-// (the shape's definition: floodplains at the channel's top).
+// (the shape's definition: floodplains at the channel's top), exactly:
+// a bank at 2 m is 2, not the dry side of the bisection's last bracket.
 func TestBankStage(t *testing.T) {
 	c := built(t, "compound:bottom=10,side=2,depth=2,floodplain=30,outer=2,height=4", 0.035, 0.001)
 	c.Datum = 100
 	h, ok, err := gauged.BankStage(c)
-	if err != nil || !ok || math.Abs(h-(2-100)) > 1e-5 {
+	if err != nil || !ok || h != 2-100 {
 		t.Errorf("bank stage %g (%v, %v), want %g", h, ok, err, 2.0-100)
 	}
 	if _, ok, _ := gauged.BankStage(built(t, "trapezoid:bottom=10,side=2,height=5", 0.035, 0.001)); ok {
