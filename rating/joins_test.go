@@ -310,6 +310,59 @@ func TestJoinUnderThresholdQuiet(t *testing.T) {
 	}
 }
 
+// A comparison of two surveys, rated without a slope, words a join's step
+// as conveyance, K = A·R^(2/3)/n (Chow, 1959, Open-Channel Hydraulics,
+// eq. 6-18), with the levee section's areas and wetted perimeters summed
+// by hand as in TestPocketJoins; with a slope, as discharge.
+func TestCompareJoinConveyance(t *testing.T) {
+	const n = 0.035
+	mk := func(name string) subdivide.Geometry {
+		p, err := subdivide.Compile(subdivide.Section{Name: name,
+			Points: []subdivide.Point{{Station: 0, Elevation: 5}, {Station: 10, Elevation: 0}, {Station: 20, Elevation: 3.6},
+				{Station: 25, Elevation: 1}, {Station: 30, Elevation: 1}, {Station: 35, Elevation: 5}},
+			N: []float64{n, n, n, n, n}})
+		if err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	chA := 7.2*3.6/2 + 10*3.6/2
+	chP := math.Hypot(7.2, 3.6) + math.Hypot(10, 3.6)
+	poA := 5*2.6/2 + 5*2.6 + 3.25*2.6/2
+	poP := math.Hypot(5, 2.6) + 5 + math.Hypot(3.25, 2.6)
+	k0, k1 := manning(chA, chP, n, 1), manning(chA+poA, chP+poP, n, 1)
+	for _, c := range []struct {
+		name  string
+		slope float64
+		want  string
+	}{
+		{"no slope", 0, "the conveyance steps up from " + rating.PlainFigures(k0, 4) + " m3/s at the crest to " + rating.PlainFigures(k1, 4) + " m3/s just above it"},
+		{"a slope", 0.0004, "the discharge steps up from " + rating.PlainFigures(k0*0.02, 4) + " m3/s at the crest to " + rating.PlainFigures(k1*0.02, 4) + " m3/s just above it"},
+	} {
+		cmpr, err := rating.CompareSections(mk("2023"), mk("2024"), []float64{3, 3.6, 4}, rating.Options{Slope: c.slope})
+		if err != nil {
+			t.Fatal(err)
+		}
+		var got []string
+		for _, w := range cmpr.Warnings {
+			if strings.Contains(w, "joins the flow") {
+				got = append(got, w)
+			}
+		}
+		if len(got) != 2 {
+			t.Fatalf("%s: join warnings %q, want one for each survey", c.name, got)
+		}
+		for _, w := range got {
+			if !strings.Contains(w, c.want) {
+				t.Errorf("%s: %q lacks %q", c.name, w, c.want)
+			}
+			if c.slope == 0 && strings.Contains(w, "discharge") {
+				t.Errorf("%s: %q speaks of discharge at a slope not given", c.name, w)
+			}
+		}
+	}
+}
+
 // Rated at gauge heights, the scatter section's join warnings, one by one
 // and rolled up, word every stage as a gauge height with its elevation,
 // and no warning at an elevation is left beside them.
