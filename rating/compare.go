@@ -98,7 +98,8 @@ func (c *SectionComparison) DatumsDiffer() bool {
 // the lower of the two lowest points to the lower of the two sections'
 // tops, in a round step (as DefaultStages lays out one section). The slope
 // in opt is not needed (conveyance does not depend on it); when it is not
-// given, 1 is used internally. Errors are those of Compute (ErrNoN for a
+// given, 1 is used internally, and the tables' warnings of pockets joining
+// the flow word their steps as conveyance. Errors are those of Compute (ErrNoN for a
 // wetted subsection without Manning's n, among others).
 func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (SectionComparison, error) {
 	c := SectionComparison{A: geometryName(a, "A"), B: geometryName(b, "B"), Units: opt.Units}
@@ -107,7 +108,8 @@ func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (Se
 	} else {
 		stages = SortedStages(stages)
 	}
-	if !(opt.Slope > 0) {
+	noSlope := !(opt.Slope > 0)
+	if noSlope {
 		opt.Slope = 1
 	}
 	ta, err := Compute(a, stages, opt)
@@ -117,6 +119,10 @@ func CompareSections(a, b subdivide.Geometry, stages []float64, opt Options) (Se
 	tb, err := Compute(b, stages, opt)
 	if err != nil {
 		return c, fmt.Errorf("%s: %w", c.B, err)
+	}
+	if noSlope { // the discharges are at the slope 1 used within: word the joins' steps as conveyance
+		ta.rewordJoins(JoinWording{Conveyance: true}, opt.Units)
+		tb.rewordJoins(JoinWording{Conveyance: true}, opt.Units)
 	}
 	for _, w := range ta.Warnings {
 		c.Warnings = append(c.Warnings, c.A+": "+w)

@@ -1,8 +1,10 @@
 package rating
 
 import (
+	"cmp"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"wetline/subdivide"
@@ -99,16 +101,208 @@ func (j PocketJoin) JoinWhere(u Units) string {
 	return "the water standing " + strings.Join(parts, " and ")
 }
 
-// PocketJoinWarning words the warning for a rating that steps at join j:
-// stage names the stage as the rating gives it (an elevation, or a gauge
-// height with its elevation) and Q the discharges before and after, in
-// the units u.
-func PocketJoinWarning(j PocketJoin, stage string, u Units) string {
-	return fmt.Sprintf("at %s %s joins the flow as the crest is overtopped: the discharge steps from %s %s at the crest to %s %s just above it (%s), and the rating with it",
-		stage, j.JoinWhere(u), PlainFigures(j.Before.Discharge, 4), u.Discharge(), PlainFigures(j.After.Discharge, 4), u.Discharge(), stepPercent(j.Step()))
+// JoinStepWarned is the least relative step of the discharge (or of the
+// conveyance) across a join, up or down, that is warned: 2 %. A project
+// choice, not a published figure: a smaller step is within the
+// uncertainty of a good gauging (a few per cent, common practice), so
+// neither a reader of the table nor a fit to gaugings would see it, and
+// survey scatter on a floodplain
+// (crests and hollows of a centimetre or two) makes many such joins, each
+// adding a little wetted perimeter and next to no water.
+const JoinStepWarned = 0.02
+
+// JoinsWarnedEach is the most joins worded one by one, those of the
+// largest steps; the rest of those warned are rolled up in one line
+// (JoinRollUp). A project choice, as the pools' warning is one line
+// however many stages it covers.
+const JoinsWarnedEach = 3
+
+// JoinWording says how a join's warning words it.
+type JoinWording struct {
+	// Stage words a stage, an elevation: nil words it as the elevation
+	// with its unit ("103.6 m"); GaugeHeightWords gives a gauge height.
+	Stage func(z float64) string
+	// Conveyance words the step as the section's conveyance K, in its
+	// unit (K = Q/√S, so the relative step is the discharge's), for
+	// tables rated without a slope; else as discharge.
+	Conveyance bool
+	// Subject names the discharge ("the discharge" when ""), unused with
+	// Conveyance.
+	Subject string
 }
 
-// stepPercent words a relative rise as a percentage.
+// stage words a stage z.
+func (w JoinWording) stage(z float64, u Units) string {
+	if w.Stage != nil {
+		return w.Stage(z)
+	}
+	return PlainFigures(z, 7) + " " + u.Length()
+}
+
+// values returns what steps at join j (before and after) and its name and
+// unit.
+func (w JoinWording) values(j PocketJoin, u Units) (before, after float64, subject, unit string) {
+	if w.Conveyance {
+		return j.Before.Conveyance, j.After.Conveyance, "the conveyance", u.Conveyance()
+	}
+	subject = w.Subject
+	if subject == "" {
+		subject = "the discharge"
+	}
+	return j.Before.Discharge, j.After.Discharge, subject, u.Discharge()
+}
+
+// stepSize is the size of a join's step, a fall or a rise, for ranking:
+// +Inf from no flow, 0 when nothing flows on either side.
+func stepSize(j PocketJoin) float64 {
+	s := math.Abs(j.Step())
+	if math.IsNaN(s) {
+		return 0
+	}
+	return s
+}
+
+// Warned reports whether join j steps by JoinStepWarned or more, up or
+// down.
+func (j PocketJoin) Warned() bool {
+	return stepSize(j) >= JoinStepWarned
+}
+
+// WarnedJoins splits joins (in ascending order of stage, as PocketJoins
+// gives them) into those worded one by one, each, and the rest of those
+// warned, rolled up in one line (JoinRollUp), both in ascending order of
+// stage. Only joins that step by JoinStepWarned or more are warned; each
+// holds at most JoinsWarnedEach, those of the largest steps in size.
+func WarnedJoins(joins []PocketJoin) (each, rolled []PocketJoin) {
+	var warned []int
+	for i, j := range joins {
+		if j.Warned() {
+			warned = append(warned, i)
+		}
+	}
+	byStep := slices.Clone(warned)
+	slices.SortStableFunc(byStep, func(a, b int) int { return cmp.Compare(stepSize(joins[b]), stepSize(joins[a])) })
+	if len(byStep) > JoinsWarnedEach {
+		byStep = byStep[:JoinsWarnedEach]
+	}
+	for _, i := range warned {
+		if slices.Contains(byStep, i) {
+			each = append(each, joins[i])
+		} else {
+			rolled = append(rolled, joins[i])
+		}
+	}
+	return each, rolled
+}
+
+// JoinStepWords words what happens at join j, the head of its warning:
+// "at 103.6 m the water standing behind the crest at station 78 m
+// (stations 78 to 115 m) joins the flow as the crest is overtopped: the
+// discharge steps up from 109.7 m3/s at the crest to 122.5 m3/s just
+// above it (+12 %)". A fall is worded as one, with its cause: the pocket
+// holds little water for the wetted perimeter its ground adds (Manning's
+// Q ∝ A^(5/3)/P^(2/3) falls where P grows by more than 5/2 of A's
+// relative growth).
+func JoinStepWords(j PocketJoin, w JoinWording, u Units) string {
+	before, after, subject, unit := w.values(j, u)
+	s := after/before - 1
+	how, why := "steps up", ""
+	if s < 0 {
+		how, why = "falls", ", the pocket holding little water for the wetted perimeter its ground adds"
+	}
+	return fmt.Sprintf("at %s %s joins the flow as the crest is overtopped: %s %s from %s %s at the crest to %s %s just above it (%s)%s",
+		w.stage(j.Stage, u), j.JoinWhere(u), subject, how, PlainFigures(before, 4), unit, PlainFigures(after, 4), unit, stepPercent(s), why)
+}
+
+// JoinRollUp words in one line the joins rolled up by WarnedJoins (in
+// ascending order of stage): how many stages, their range, and the
+// largest step; "" for none.
+func JoinRollUp(rolled []PocketJoin, w JoinWording, u Units) string {
+	if len(rolled) == 0 {
+		return ""
+	}
+	big, falls := rolled[0], 0
+	for _, j := range rolled {
+		if stepSize(j) > stepSize(big) {
+			big = j
+		}
+		if j.Step() < 0 {
+			falls++
+		}
+	}
+	before, after, subject, unit := w.values(big, u)
+	where := w.stage(rolled[0].Stage, u)
+	if n := len(rolled); n > 1 {
+		where = "from " + where + " to " + w.stage(rolled[n-1].Stage, u)
+	}
+	var kinds []string
+	if rises := len(rolled) - falls; rises > 0 {
+		kinds = append(kinds, Counted(rises, "rise", "rises"))
+	}
+	if falls > 0 {
+		kinds = append(kinds, Counted(falls, "fall", "falls"))
+	}
+	return fmt.Sprintf("at %d more %s, %s, water standing behind a crest joins the flow as the crest is overtopped and %s steps by %s or more (%s): the largest step is %s, at %s, from %s to %s %s",
+		len(rolled), Agree(len(rolled), "stage", "stages"), where, subject, percentSize(JoinStepWarned), JoinAnd(kinds),
+		stepKind(big.Step()), w.stage(big.Stage, u), PlainFigures(before, 4), PlainFigures(after, 4), unit)
+}
+
+// stepKind words a relative step as a rise or a fall: "a rise of 12 %",
+// "a fall of 4 %", "a rise from no flow".
+func stepKind(r float64) string {
+	switch {
+	case math.IsInf(r, 1) || math.IsNaN(r):
+		return "a rise from no flow"
+	case r < 0:
+		return "a fall of " + percentSize(r)
+	}
+	return "a rise of " + percentSize(r)
+}
+
+// percentSize words the size of a relative step as a percentage: "4 %".
+func percentSize(r float64) string {
+	return fmt.Sprintf("%.0f %%", 100*math.Abs(r))
+}
+
+// JoinWarnings words the warnings of joins (in ascending order of stage)
+// for a table: one for each of WarnedJoins' each, with what follows for
+// the rating, and one rolling up the rest; none for a join that steps by
+// less than JoinStepWarned.
+func JoinWarnings(joins []PocketJoin, w JoinWording, u Units) []string {
+	each, rolled := WarnedJoins(joins)
+	var out []string
+	for _, j := range each {
+		msg := JoinStepWords(j, w, u)
+		switch {
+		case w.Conveyance:
+		case j.Step() < 0:
+			msg += "; the rating falls with it"
+		default:
+			msg += ", and the rating with it"
+		}
+		out = append(out, msg)
+	}
+	if s := JoinRollUp(rolled, w, u); s != "" {
+		out = append(out, s)
+	}
+	return out
+}
+
+// rewordJoins replaces the join warnings Compute gave t (JoinWarnings at
+// elevations, of the discharge) with those worded by w.
+func (t *Table) rewordJoins(w JoinWording, u Units) {
+	old := JoinWarnings(t.Joins, JoinWording{}, u)
+	if len(old) == 0 {
+		return
+	}
+	k := slices.Index(t.Warnings, old[0])
+	if k < 0 || k+len(old) > len(t.Warnings) || !slices.Equal(t.Warnings[k:k+len(old)], old) {
+		return
+	}
+	t.Warnings = slices.Replace(t.Warnings, k, k+len(old), JoinWarnings(t.Joins, w, u)...)
+}
+
+// stepPercent words a relative step as a percentage, signed.
 func stepPercent(r float64) string {
 	if math.IsInf(r, 1) || math.IsNaN(r) {
 		return "from no flow"
@@ -121,12 +315,6 @@ func stepPercent(r float64) string {
 // 103.6 m)".
 func GaugeHeightWords(z, datum float64, u Units) string {
 	return fmt.Sprintf("gauge height %s %s (elevation %s %s)", PlainFigures(DecimalDifference(z, datum), 7), u.Length(), PlainFigures(z, 7), u.Length())
-}
-
-// JoinWarning is PocketJoinWarning with the stage as an elevation, the
-// form a Table's warnings take.
-func JoinWarning(j PocketJoin, u Units) string {
-	return PocketJoinWarning(j, PlainFigures(j.Stage, 7)+" "+u.Length(), u)
 }
 
 // tableJoins returns the joins that lie within a table whose rows span

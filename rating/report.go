@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"slices"
 	"strings"
 
 	"wetline/subdivide"
@@ -188,11 +187,7 @@ func (opt RateOptions) compute(g subdivide.Geometry, stages []float64) (Table, e
 	for i := range t.Rows {
 		t.Rows[i].Stage = stages[i]
 	}
-	for _, j := range t.Joins { // worded at the table's gauge heights
-		if k := slices.Index(t.Warnings, JoinWarning(j, opt.Units)); k >= 0 {
-			t.Warnings[k] = PocketJoinWarning(j, GaugeHeightWords(j.Stage, opt.Datum, opt.Units), opt.Units)
-		}
-	}
+	t.rewordJoins(JoinWording{Stage: func(z float64) string { return GaugeHeightWords(z, opt.Datum, opt.Units) }}, opt.Units) // at the table's gauge heights
 	return t, err
 }
 

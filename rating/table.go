@@ -47,8 +47,8 @@ type Table struct {
 	// Warnings are facts a reviewer should see (ends extended, pockets).
 	Warnings []string
 	// Joins are the stages within the table's range at which pockets join
-	// the flow and the rating steps (see PocketJoins); each has its
-	// warning (JoinWarning).
+	// the flow and the rating steps (see PocketJoins); those that step by
+	// JoinStepWarned or more are warned (JoinWarnings).
 	Joins []PocketJoin
 	// Kind names what the table is when its source says so (a fitted
 	// rating, KindBackwater), for labels; "" when unknown.
@@ -239,9 +239,7 @@ func Compute(g subdivide.Geometry, stages []float64, opt Options) (Table, error)
 	t.Warnings = append(t.Warnings, ExtensionWarnings(maxL, maxR, maxStage, opt.Units)...)
 	t.Warnings = append(t.Warnings, PoolWarnings(pools, pondedStages, ponded, opt.Geometry, opt.Units)...)
 	t.Joins = tableJoins(g, opt, minStage, maxStage)
-	for _, j := range t.Joins {
-		t.Warnings = append(t.Warnings, JoinWarning(j, opt.Units))
-	}
+	t.Warnings = append(t.Warnings, JoinWarnings(t.Joins, JoinWording{}, opt.Units)...)
 	if w := ChannelLowWarning(t.Subsections, groundPoints(g), opt.Units); w != "" && !opt.Geometry.AllPools {
 		t.Warnings = append(t.Warnings, w)
 	}

@@ -17,19 +17,20 @@ const joinPartTolerance = 1e-9
 var partWords = map[Part]string{WholeSection: "the whole", ChannelPart: "the channel's share", OverbankPart: "the overbanks' share"}
 
 // dropJoinWarnings removes a hydraulic table's own warnings of the stages
-// at which pockets join the flow (rating.JoinWarning, worded at
+// at which pockets join the flow (rating.JoinWarnings, worded at
 // elevations), which the report words once at gauge heights with what
 // the fit makes of each (joinWarnings).
 func dropJoinWarnings(t rating.Table, u rating.Units) []string {
-	return slices.DeleteFunc(slices.Clone(t.Warnings), func(w string) bool {
-		return slices.ContainsFunc(t.Joins, func(j rating.PocketJoin) bool { return w == rating.JoinWarning(j, u) })
-	})
+	own := rating.JoinWarnings(t.Joins, rating.JoinWording{}, u)
+	return slices.DeleteFunc(slices.Clone(t.Warnings), func(w string) bool { return slices.Contains(own, w) })
 }
 
-// joinWarnings words, once for the report, each stage at which water
-// standing behind higher ground joins the section's flow, where the
-// hydraulic rating steps (rating.PocketJoins), and what the fit makes of
-// it where its table spans the stage: a least-squares table's
+// joinWarnings words, once for the report, the stages at which water
+// standing behind higher ground joins the section's flow and the
+// hydraulic rating steps (rating.PocketJoins) by rating.JoinStepWarned or
+// more, as a table's are (rating.WarnedJoins: the largest one by one,
+// the rest in one line), and what the fit makes of each worded alone
+// where its table spans the stage: a least-squares table's
 // conveyance-slope extension, Q = K·√S on the section's conveyance,
 // steps with it; a Bayesian prior fitted to the rating across it smooths
 // it.
@@ -39,17 +40,19 @@ func (r *Report) joinWarnings() []string {
 		return nil
 	}
 	u := c.Options.Units
-	Q := u.Discharge()
+	w := rating.JoinWording{Stage: func(z float64) string { return rating.GaugeHeightWords(z, c.Datum, u) }, Subject: "the section's hydraulic discharge"}
+	each, rolled := rating.WarnedJoins(r.joins)
 	var out []string
-	for _, j := range r.joins {
+	for _, j := range each {
 		h := rating.DecimalDifference(j.Stage, c.Datum)
-		msg := sayf("at %s %s joins the flow as the crest is overtopped: the section's hydraulic discharge steps from %s %s at the crest to %s %s just above it (%s)",
-			rating.GaugeHeightWords(j.Stage, c.Datum, u), j.JoinWhere(u),
-			rating.PlainFigures(j.Before.Discharge, 4), Q, rating.PlainFigures(j.After.Discharge, 4), Q, joinStep(j))
+		msg := rating.JoinStepWords(j, w, u)
 		if r.Fit != nil && r.Table != nil && r.tableSpans(h) {
 			msg += r.joinFit(j, h)
 		}
 		out = append(out, msg)
+	}
+	if s := rating.JoinRollUp(rolled, w, u); s != "" {
+		out = append(out, s)
 	}
 	return out
 }
@@ -75,15 +78,6 @@ func partDischarge(r rating.Row, part Part) float64 {
 		}
 	}
 	return q
-}
-
-// joinStep words a join's relative step as a percentage.
-func joinStep(j rating.PocketJoin) string {
-	s := j.Step()
-	if math.IsInf(s, 0) || math.IsNaN(s) {
-		return "from no flow"
-	}
-	return sayf("%+.0f %%", 100*s)
 }
 
 // tableSpans reports a fitted table with rows at or below gauge height h

@@ -77,12 +77,72 @@ func TestFitPocketJoins(t *testing.T) {
 				t.Fatalf("join warnings %q, want one", ws)
 			}
 			head := "at gauge height 3.6 m (elevation 3.6 m) the water standing behind the crest at station 20 m (stations 20 to 35 m) joins the flow"
-			steps := "steps from " + rating.PlainFigures(before, 4) + " m3/s at the crest to " + rating.PlainFigures(after, 4) + " m3/s just above it"
+			steps := "steps up from " + rating.PlainFigures(before, 4) + " m3/s at the crest to " + rating.PlainFigures(after, 4) + " m3/s just above it"
 			for _, part := range []string{head, steps, tc.want(rep)} {
 				if !strings.Contains(ws[0], part) {
 					t.Errorf("warning %q lacks %q", ws[0], part)
 				}
 			}
 		})
+	}
+}
+
+// A fit follows a table's rule for joins: on a floodplain with survey
+// scatter (crests and hollows of a centimetre or two, and a back-swamp
+// beyond) the report words one by one only the rating.JoinsWarnedEach
+// joins of the largest steps among those of rating.JoinStepWarned or
+// more, rolls the rest of those up in one line, and leaves the joins of
+// smaller steps (here at 102.03 and 102.06 m) unwarned.
+func TestFitJoinsScatter(t *testing.T) {
+	const n, slope = 0.035, 0.001
+	pts := subdivide.XZ(0, 104, 10, 100, 20, 102, 21, 101.99, 22, 102.02, 23, 102.01, 24, 102.03,
+		24.2, 102.025, 24.4, 102.04, 25.4, 102.03, 26.4, 102.06, 26.6, 102.055, 26.8, 102.07, 28, 102.06,
+		29, 102.09, 30, 102.08, 31, 102.11, 32, 101.5, 36, 101.5, 37, 102.2, 40, 105)
+	ns := make([]float64, len(pts)-1)
+	for i := range ns {
+		ns[i] = n
+	}
+	p, err := subdivide.Compile(subdivide.Section{Points: pts, N: ns})
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := rating.HydraulicCurve{Geometry: p, Options: rating.Options{Slope: slope}}
+	joins, err := rating.PocketJoins(p, c.Options)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var small []float64
+	for _, j := range joins {
+		if !j.Warned() {
+			small = append(small, j.Stage)
+		}
+	}
+	if len(joins) != 8 || len(small) != 2 {
+		t.Fatalf("%d joins, %d of them small: want 8 and 2", len(joins), len(small))
+	}
+	gs := gaugeTruth(t, c, linspace(100.5, 101.9, 12), nil)
+	rep, err := gauged.Analyze(gs, gauged.Options{Hydraulic: &c, Table: gauged.ControlTableOptions{Step: 0.01}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var ws []string
+	for _, w := range rep.Warnings {
+		if strings.Contains(w, "joins the flow") {
+			ws = append(ws, w)
+		}
+	}
+	if len(ws) != rating.JoinsWarnedEach+1 {
+		t.Fatalf("join warnings %q, want %d one by one and one rolled up", ws, rating.JoinsWarnedEach)
+	}
+	roll := ws[len(ws)-1]
+	if !strings.HasPrefix(roll, "at 3 more stages, from gauge height 102.04 m") || !strings.Contains(roll, "the section's hydraulic discharge steps by 2 % or more (3 falls)") {
+		t.Errorf("roll-up %q", roll)
+	}
+	for _, z := range small {
+		for _, w := range ws {
+			if strings.Contains(w, "gauge height "+rating.PlainFigures(z, 7)+" m") {
+				t.Errorf("the small join at %v is warned: %q", z, w)
+			}
+		}
 	}
 }
