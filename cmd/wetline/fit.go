@@ -77,7 +77,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.notGiven("datum")
 	fs.BoolVar(&f.channelOnly, "channel-only", false, "back-calculate only the main channel's n (default: one factor on every n)")
 	fs.BoolVar(&f.compareOnly, "compare-only", false, "compare the gaugings with the hydraulic rating and fit nothing")
-	fs.StringVar(&f.method, "method", "bayes", "how the rating is fitted: bayes (Bayesian, priors from the survey) or lsq (weighted least squares in ln Q; above the highest gauging h_j the bands widen in quadrature by t·½·(h − h_j)·SE for a trend of ln S, even when S is taken as level, and by 1.96·|φ(h) − φ(h_j)|·σ for the overbanks' n against the channel's, φ their share of conveyance, cv 0.2)")
+	fs.StringVar(&f.method, "method", "bayes", "how the rating is fitted: bayes (Bayesian, priors from the survey) or lsq (weighted least squares in ln Q; above the highest gauging h_j the bands widen in quadrature by t·½·(h − h_j)·SE for a trend of ln S, even when S is taken as level, and by 1.96·|φ(h) − φ(h_j)|·σ for the overbanks' n against the channel's, φ their share of conveyance, cv 0.2; lower limits never fall with stage)")
 	fs.IntVar(&f.controls, "controls", 0, fmt.Sprintf("number of controls, 1 to %d, each Q = A·(h − B)^C with its own offset (default 1, or one more than --breaks; a Bayesian fit on a section whose overbanks flow below the table's top adds a floodplain control at the bank stage unless --controls, --breaks, --kinds, --joints or --control-section is given)", gauged.MaxControls))
 	fs.IntVar(&f.segments, "segments", 0, "the same as --controls (the name of earlier versions)")
 	fs.notGiven("segments")
