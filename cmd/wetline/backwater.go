@@ -58,10 +58,10 @@ func (f *backwaterFlags) register(fs *flagSet) {
 	fs.Float64Var(&f.contraction, "contraction", 0, "eddy-loss coefficient where the flow contracts, 0 to 1")
 	fs.Float64Var(&f.spreadTol, "spread-tol", math.NaN(), "largest difference between the profile from the boundary and those from the second and half-way starts at the rating section "+
 		"before its stage is flagged unsettled (default 0.01 m or 0.03 ft)")
-	fs.Float64Var(&f.verify, "verify", math.NaN(), "also compute the profile of this discharge and its departure from each high-water mark of the reach table")
+	fs.Float64Var(&f.verify, "verify", math.NaN(), "also compute the profile of this discharge and its departure from each high-water mark of the reach table (text report, JSON verification, workbook verification sheet; with csv, the mean and largest departure on standard error)")
 	fs.StringVar(&f.units, "units", "si", unitsUsage)
 	fs.BoolVar(&f.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
-	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall")
+	fs.BoolVar(&f.noExtend, "no-extend", false, "make a water surface above an end of a section an error instead of extending the end with a vertical wall, which is warned of")
 	fs.StringVar(&f.format, "format", "", "output format: text (the report), csv (the rating at the section as a rating table like rate's, "+
 		"for plot and fit --hydraulic-rating), json or xlsx (a results workbook; needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")

@@ -39,10 +39,10 @@ func (f *rateFlags) register(fs *flagSet) {
 	fs.notGiven("slope")
 	fs.Float64Var(&f.from, "from", math.NaN(), "lowest stage (default: the lowest ground point)")
 	fs.Float64Var(&f.to, "to", math.NaN(), "highest stage (default: the lower end of the section)")
-	fs.Float64Var(&f.step, "step", math.NaN(), "stage step, at least 0.0001 (stages are written to 4 decimals; default: a round step giving about 50 rows)")
+	fs.Float64Var(&f.step, "step", math.NaN(), "stage step, at least 0.0001 (stages are written to 4 decimals; default: a round step giving about 50 rows, never under 0.0001, a shallower section warned of)")
 	fs.Var(&f.stages, "stages", "explicit stages, comma-separated, in any order (the table lists them increasing, each once; instead of --from/--to/--step)")
-	fs.StringVar(&f.format, "format", "", "output format: csv, json, text (aligned columns to read on screen) or xlsx (a results workbook with figures); default: from the -o extension, else csv")
-	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
+	fs.StringVar(&f.format, "format", "", "output format: csv, json, text (aligned columns to read on screen) or xlsx (a results workbook with figures and a lookup sheet at every hundredth of stage); default: from the -o extension, else csv")
+	fs.StringVarP(&f.output, "output", "o", "", "output file, or a batch's folder (an existing folder is replaced only if it holds just an earlier batch's index.csv and tables; default: standard output)")
 	f.calib.register(fs)
 	fs.StringVar(&f.plots, "plots", "", "also write the rating, section and properties figures (PNG) into this folder")
 	fs.output(outputEither, "output") // a folder for a batch

@@ -395,9 +395,9 @@ type recordFlags struct {
 func (f *recordFlags) register(fs *flagSet) {
 	f.historyFlags.register(fs)
 	fs.StringVar(&f.sheet, "sheet", "", "workbook sheet of the stage record (default: the first visible sheet)")
-	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: those within the record's span set against the record (discharge and gauge height) and drawn on the hydrograph")
+	fs.StringVar(&f.gaugings, "gaugings", "", "gaugings FILE: those within the record's span set against the record (discharge and gauge height) and drawn on the hydrograph; those outside it are counted in one warning")
 	fs.StringVar(&f.gaugingsSheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
-	fs.BoolVar(&f.daily, "daily", false, "write the daily values (the default in text and CSV); with --unit too, both tables, in text, JSON or a workbook (a CSV file holds one: give one of them)")
+	fs.BoolVar(&f.daily, "daily", false, "write the daily values (the default in text and CSV): days at --utc-offset, midnight to midnight, both included; the time-weighted mean over the covered part, the least and greatest with their times, coverage; with --unit too, both tables, in text, JSON or a workbook (a CSV file holds one: give one of them)")
 	fs.BoolVar(&f.unit, "unit", false, "write the unit values, one row per reading (JSON and workbooks write both tables unless --daily or --unit alone picks one)")
 	fs.DurationVar(&f.maxGap, "max-gap", record.DefaultMaxGap, "longest time between readings that is bridged, as 90m or 2h; longer gaps are left uncovered")
 	fs.Float64Var(&f.stageTol, "stage-tolerance", 0, "largest difference between a gauging's gauge height and the recorded stage at its time that is not flagged, in the length unit "+

@@ -37,7 +37,7 @@ type coordFlags struct {
 // sections (one line cannot fit them all).
 func (cf *coordFlags) register(fs *flagSet, line bool) {
 	if line {
-		fs.Var(&cf.line, "line", "coordinate surveys: the section line E1,N1,E2,N2 from its left end (default: through the points marked left pin and right pin, else the principal axis of the points)")
+		fs.Var(&cf.line, "line", "coordinate surveys: the section line E1,N1,E2,N2 from its left end (one starting on the right bank is reversed, warned; default: through the points marked left pin and right pin, else the principal axis of the points)")
 	}
 	fs.Float64Var(&cf.azimuth, "flow-azimuth", math.NaN(), "coordinate surveys: the direction the water flows, degrees clockwise from grid north, which tells the left bank (default: the pins, else the first point surveyed is the left end)")
 	fs.Float64Var(&cf.tolerance, "offset-tolerance", 0, "coordinate surveys: warn of points farther off the section line than this (default 0.5 m, 1.5 ft)")
@@ -85,7 +85,7 @@ func (sf *sectionFlags) register(fs *flagSet) {
 	fs.StringVar(&sf.units, "units", "si", unitsUsage)
 	fs.BoolVar(&sf.allPools, "all-pools", false, "count water standing in pockets behind higher ground as flowing (default: only the water connected to the main channel)")
 	connectedFlag(fs)
-	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall")
+	fs.BoolVar(&sf.noExtend, "no-extend", false, "make a stage above an end of the section an error instead of extending the end with a vertical wall, which is warned of")
 	fs.StringVar(&sf.shape, "shape", "", "a built section instead of a survey: "+subdivide.ShapeForms)
 	fs.StringVar(&sf.composite, "composite", "split", "roughness where a region's ground has several n: split (a subsection per n; a vertical wall's perimeter joins the subsection it faces, Horton–Einstein n), horton, pavlovskii or lotter")
 	sf.coords.register(fs, true)
@@ -210,7 +210,7 @@ type calibrateFlags struct {
 }
 
 func (c *calibrateFlags) register(fs *flagSet) {
-	fs.StringVar(&c.gaugings, "calibrate", "", "gaugings file: scale n by the factor that best fits them (least squares in ln Q)")
+	fs.StringVar(&c.gaugings, "calibrate", "", "gaugings file: scale n by the factor that best fits them (least squares in ln Q); its standard error and the scatter go to the warnings and JSON calibration, not the CSV; a factor putting n outside 0.005 to 1 is refused")
 	fs.StringVar(&c.sheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
 	fs.Float64Var(&c.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: stages (and gaugings) are then gauge heights, elevation = gauge height + DATUM")
 	fs.notGiven("datum")

@@ -33,8 +33,8 @@ type shiftsFlags struct {
 func (f *shiftsFlags) register(fs *flagSet) {
 	f.historyFlags.register(fs)
 	fs.StringVar(&f.gaugingsSheet, "gaugings-sheet", "", "workbook sheet of the gaugings (default: a sheet named gaugings, else the first)")
-	fs.StringVar(&f.proposed, "proposed", "", "also write each visit's proposed shift diagram to this CSV file, to edit and give back with --shifts")
-	fs.DurationVar(&f.visitGap, "visit-gap", gauged.DefaultVisitGap, "longest time between gaugings of one field visit, as 12h; 0 makes every gauging its own visit")
+	fs.StringVar(&f.proposed, "proposed", "", "also write each visit's proposed shift diagram to this CSV file, headers naming the unit (stage (ft), shift (ft)), to edit and give back with --shifts")
+	fs.DurationVar(&f.visitGap, "visit-gap", gauged.DefaultVisitGap, "longest time between gaugings of one field visit, as 12h (a visit is split where a rating period begins); 0 makes every gauging its own visit")
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (needs -o); default: from the -o extension, else text")
 	fs.StringVarP(&f.output, "output", "o", "", "output file (default: standard output)")
 	fs.StringVar(&f.plots, "plots", "", "also write the figures of shift against time and against stage (PNG) into this folder")

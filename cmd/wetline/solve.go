@@ -24,9 +24,9 @@ type solveFlags struct {
 func (f *solveFlags) register(fs *flagSet) {
 	f.sectionFlags.register(fs)
 	f.q = rating.Query{Discharge: math.NaN(), Area: math.NaN(), Stage: math.NaN()}
-	fs.Float64Var(&f.q.Discharge, "discharge", math.NaN(), "discharge to find the normal and critical stages of")
+	fs.Float64Var(&f.q.Discharge, "discharge", math.NaN(), "discharge to find the normal (with --slope) and critical stages of, with specific energy and Froude number; where discharge does not grow steadily with stage (a pipe near its crown), each root's branch, and whether each critical stage is a minimum or maximum of specific energy, or neither")
 	fs.Float64Var(&f.q.Area, "area", math.NaN(), "flow area to find the stage of (instead of --discharge)")
-	fs.Float64Var(&f.q.Stage, "stage", math.NaN(), "stage to find the critical (and, with --slope, uniform-flow) discharge at")
+	fs.Float64Var(&f.q.Stage, "stage", math.NaN(), "stage to find the critical (and, with --slope, uniform-flow) discharge at; at a pipe's crown, the full-flow one")
 	fs.Float64Var(&f.slope, "slope", 0, "friction slope for the normal stage (m/m or ft/ft)")
 	fs.notGiven("slope")
 	fs.StringVar(&f.format, "format", "", "output format: text or json (default: from the -o extension, else text)")
