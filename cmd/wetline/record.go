@@ -102,12 +102,19 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 // zeroFlowAbove names --zero-flow in an error of a rating table read with
 // the gauge height of zero flow that flag gave, when that height lies at
 // or above a row with flow, or below a row without flow; other errors are
-// returned as they are.
+// returned as they are. With --datum, the error says that --zero-flow is
+// a gauge height, as the table's stages less the datum are.
 func zeroFlowAbove(cmd string, opt survey.RatingTableOptions, err error) error {
 	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) && !errors.Is(err, gauged.ErrDryAboveZeroFlow) {
 		return err
 	}
-	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64), err)
+	e := strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64)
+	if opt.Datum != 0 {
+		d := strconv.FormatFloat(opt.Datum, 'g', -1, 64)
+		return fmt.Errorf("%s: --zero-flow %s: %w (with --datum %s the table's stages less %s are gauge heights, and --zero-flow is a gauge height too: elevation %s is gauge height %s)",
+			cmd, e, err, d, d, e, strconv.FormatFloat(rating.DecimalDifference(opt.ZeroFlow, opt.Datum), 'g', -1, 64))
+	}
+	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, e, err)
 }
 
 // perRating returns value k of a list flag given once for all ratings or
