@@ -122,8 +122,12 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	zeroFlow := f.zeroFlow
 	warnings := append([]string(nil), t.Warnings...)
-	if foot, ok := survey.TableDryFoot(t); ok && !fs.Changed("zero-flow") && len(fit) == 0 {
-		zeroFlow = foot.E
+	if foot, ok := survey.TableDryFoot(t); ok && !fs.Changed("zero-flow") {
+		if len(fit) == 0 {
+			zeroFlow = foot.E
+		} else {
+			foot = foot.OfFit() // the fit's rows are drawn from their own e, the same first row
+		}
 		at := func(int) string { return survey.Position(path, src.Table.Sheet) }
 		notes = append(notes, foot.Note(at, "--zero-flow"))
 		if w := foot.Warning(at); w != "" {
