@@ -571,7 +571,7 @@ func (f Foot) OfFit() Foot {
 func (f Foot) Source() string {
 	switch {
 	case f.fit:
-		return "the fit's offset (the table's first row)"
+		return "the fit's offset, the table's first row"
 	case f.FromDepth:
 		return "the table's depth column"
 	}

@@ -662,7 +662,7 @@ func TestRatingTableFitOffset(t *testing.T) {
 		t.Fatal(err)
 	}
 	rt := rs.Periods[0].Rating
-	if rt.ZeroFlow != 0.612938 || rt.ZeroFlowSource != "the fit's offset (the table's first row)" || len(rs.Notes) != 1 ||
+	if rt.ZeroFlow != 0.612938 || rt.ZeroFlowSource != "the fit's offset, the table's first row" || len(rs.Notes) != 1 ||
 		!strings.Contains(rs.Notes[0], "fit.csv:2: the gauge height of zero flow e = 0.612938 is the stage of the table's last dry row at its foot") ||
 		!strings.Contains(rs.Notes[0], "e is the fit's offset") || strings.Contains(rs.Notes[0], "the flow starts at or above that row") {
 		t.Errorf("e %g from %q, notes %q", rt.ZeroFlow, rt.ZeroFlowSource, rs.Notes)

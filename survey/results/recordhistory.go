@@ -102,7 +102,7 @@ func ratingWords(rt *gauged.RatingTable, u rating.Units) string {
 	}
 	L := u.Length()
 	lo, hi := rt.Points[0].Stage, rt.Points[len(rt.Points)-1].Stage
-	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, rating.Counted(len(rt.Points), "row", "rows"), FormatLength(lo), FormatLength(hi), L)}
+	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, rating.Counted(len(rt.Points), "row", "rows"), comparedStage(lo), comparedStage(hi), L)}
 	if rt.HasZeroFlow {
 		parts = append(parts, fmt.Sprintf("zero flow at %s %s (%s; log-linear in h − e between rows)", comparedStage(rt.ZeroFlow), L, zeroFlowSource(rt)))
 	} else {
