@@ -389,7 +389,7 @@ func logRatingPanel(d ratingLines, un unitNames, e float64, res *Result) *plot.P
 // positive discharge) and warns of the gaugings and of the curve points
 // with flow among them.
 func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
-	omitted, warned := 0, 0
+	omitted, warned, dryAbove := 0, 0, 0
 	for i, c := range [][]RatingPoint{d.hyd, d.fit, d.ext} {
 		for _, p := range c {
 			if p.Stage-e > 0 && p.Discharge > 0 {
@@ -399,9 +399,13 @@ func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
 			// A dry point at or below e is what a rating should
 			// have, and so is the dry foot of a hydraulic rating
 			// whatever e a fit puts beside it; flow at or below e,
-			// or negative flow, is not.
-			dry := p.Discharge == 0 && (p.Stage <= e || i == 0)
-			if !dry {
+			// or negative flow, is not, nor a dry point of a fit
+			// above it.
+			switch {
+			case p.Discharge == 0 && (p.Stage <= e || i == 0):
+			case p.Discharge == 0:
+				dryAbove++
+			default:
 				warned++
 			}
 		}
@@ -417,6 +421,11 @@ func logOmissions(d ratingLines, un unitNames, e float64, res *Result) {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(
 			"log–log panel: %s at or below the gauge height of zero flow (%s %s) or without positive discharge left out",
 			rating.Counted(gOut, "gauging", "gaugings"), fmtStage(e), un.length))
+	}
+	if dryAbove > 0 {
+		res.Warnings = append(res.Warnings, fmt.Sprintf(
+			"log–log panel: %s without flow above the gauge height of zero flow (%s %s) left out: a row without flow above e contradicts it",
+			rating.Counted(dryAbove, "rating point", "rating points"), fmtStage(e), un.length))
 	}
 	if warned > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf(

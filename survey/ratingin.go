@@ -105,9 +105,10 @@ func RatingFromTable(t *Table, choice UnitChoice) (rating.Table, error) {
 // height of zero flow given (zero), as plot's --zero-flow gives one: a
 // column of the table naming a zero flow is warned of as
 // RatingTablesFromTable warns of it, not when it holds the value given,
-// and so is the highest row without flow above the value given, which
-// contradicts it (the readers of ratings for discharge refuse the two
-// together: gauged.ErrDryAboveZeroFlow).
+// and so are the highest row without flow above the value given and the
+// lowest row with flow at or below it, which contradict it (the readers
+// of ratings for discharge refuse them: gauged.ErrDryAboveZeroFlow,
+// gauged.ErrZeroFlowAbove).
 func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rating.Table, error) {
 	out := rating.Table{Name: ratingSection(t), Units: choice.Units, Slope: math.NaN(), Warnings: t.ownWarnings()}
 	cs, cq, units, err := ratingColumns(t, choice)
@@ -183,6 +184,9 @@ func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rati
 		if w := dryAboveGiven(t, out.Rows, rows, zero); w != "" {
 			out.Warnings = append(out.Warnings, w)
 		}
+		if w := wetBelowGiven(t, out.Rows, rows, zero); w != "" {
+			out.Warnings = append(out.Warnings, w)
+		}
 	}
 	return out, err
 }
@@ -204,6 +208,32 @@ func dryAboveGiven(t *Table, rows []rating.Row, at []int, zero ZeroFlowGiven) st
 	return fmt.Sprintf("%s: this row, at stage %s, has no flow, yet lies above the gauge height of zero flow %s that %s gives: the two disagree "+
 		"(shifts, record and compare refuse them together); give e at or above the table's last dry row, or leave %s out to take the table's own",
 		where(t, at[k]), strconv.FormatFloat(rows[k].Stage, 'g', -1, 64), e, zero.flag(), zero.flag())
+}
+
+// wetBelowGiven words the warning of a table whose lowest row with flow
+// lies at or below the gauge height of zero flow given (zero), "" when
+// none does (rows and at as for dryAboveGiven).
+func wetBelowGiven(t *Table, rows []rating.Row, at []int, zero ZeroFlowGiven) string {
+	k, n := -1, 0
+	for i, r := range rows {
+		if r.Discharge > 0 && !(r.Stage > zero.Value) {
+			if k < 0 {
+				k = i
+			}
+			n++
+		}
+	}
+	if k < 0 {
+		return ""
+	}
+	more := ""
+	if n > 1 {
+		more = fmt.Sprintf(" (and %s above it)", rating.Counted(n-1, "row with flow", "rows with flow"))
+	}
+	e := strconv.FormatFloat(zero.Value, 'g', -1, 64)
+	return fmt.Sprintf("%s: this row, at stage %s, carries %s, yet lies at or below the gauge height of zero flow %s that %s gives%s: the two disagree "+
+		"(shifts, record and compare refuse them together); give e below the table's first row with flow, or leave %s out to take the table's own",
+		where(t, at[k]), strconv.FormatFloat(rows[k].Stage, 'g', -1, 64), strconv.FormatFloat(rows[k].Discharge, 'g', -1, 64), e, zero.flag(), more, zero.flag())
 }
 
 // ratingColumns finds a rating table's stage and discharge columns and

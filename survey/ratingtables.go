@@ -343,20 +343,32 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 	if flag == "" {
 		flag = "--zero-flow"
 	}
-	if f, ok := DryFoot(g.points, g.depths); ok && !rt.HasZeroFlow {
-		rt.HasZeroFlow, rt.ZeroFlow = true, f.E
-		at := func(i int) string { return where(t, g.recs[i].Row) }
+	at := func(i int) string { return where(t, g.recs[i].Row) }
+	f, ok := TableFoot(g.points, g.depths)
+	if ok && IsFitTable(t) {
+		f = f.OfFit()
+	}
+	switch {
+	case rt.HasZeroFlow:
+		rt.ZeroFlowSource = "given by " + flag
+		*notes = append(*notes, fmt.Sprintf("%s: the gauge height of zero flow e = %s is given by %s: the table is read log-linearly in (h − e) between rows",
+			name, plainLength(rt.ZeroFlow), flag))
+		if w := f.GivenWarning(rt.ZeroFlow, flag, at); ok && w != "" {
+			*warn = append(*warn, w)
+		}
+	case ok:
+		rt.HasZeroFlow, rt.ZeroFlow, rt.ZeroFlowSource = true, f.E, f.Source()
 		*notes = append(*notes, f.Note(at, flag))
 		if w := f.Warning(at); w != "" {
 			*warn = append(*warn, w)
 		}
-	}
-	switch {
-	case rt.HasZeroFlow:
 	case len(g.points) > 0 && g.points[0].Discharge == 0:
 		*warn = append(*warn, fmt.Sprintf("%s: the first row has no flow at stage %g: give the gauge height of zero flow to interpolate log-linearly in (h − e)",
 			where(t, g.recs[0].Row), g.points[0].Stage))
 	case len(g.points) > 0:
+		if w := f.Warning(at); w != "" {
+			*warn = append(*warn, w)
+		}
 		*warn = append(*warn, fmt.Sprintf("%s: the table has no row without flow and %s is not given, so it is read linearly in stage between rows; "+
 			"give %s E, its gauge height of zero flow, to read it log-linearly in (h − e)", name, flag, flag))
 	}
@@ -381,6 +393,7 @@ type Foot struct {
 	other              int     // the row whose stage less depth disagrees with row depth's (footDepthsDisagree)
 	otherE             float64 // its stage less its depth
 	tolerance          float64 // the table's rounding of a stage less a depth (length unit)
+	fit                bool    // the table is a fit's, e its fitted offset (OfFit)
 }
 
 // footDoubt is what a rating table's depth column says against the
@@ -454,21 +467,9 @@ func DryFoot(points []gauged.RatingPoint, depths []float64) (f Foot, ok bool) {
 		return f, true // every row dry
 	}
 	f.wet, f.wetStage = k+1, points[k+1].Stage
-	d := decimals(f.dryStage)
-	for i := f.wet; i < len(points); i++ {
-		if i < len(depths) && finite(depths[i]) {
-			d = max(d, decimals(points[i].Stage), decimals(depths[i]))
-			if f.depth < 0 {
-				f.depth = i
-			}
-		}
-	}
-	if f.depth < 0 {
+	if !f.readDepths(points, depths, decimals(f.dryStage)) {
 		return f, true
 	}
-	f.tolerance = footTolerance(d)
-	f.depthStage, f.depthD = points[f.depth].Stage, depths[f.depth]
-	f.depthE = rating.DecimalDifference(f.depthStage, f.depthD)
 	switch {
 	case !(f.depthE < f.wetStage):
 		f.doubt = footDepthAtFlow
@@ -478,6 +479,72 @@ func DryFoot(points []gauged.RatingPoint, depths []float64) (f Foot, ok bool) {
 		return f, true
 	}
 	f.E, f.FromDepth = math.Max(f.depthE, f.dryStage), true
+	f.checkDepths(points, depths)
+	return f, true
+}
+
+// WetFoot returns the gauge height of zero flow e that a rating table
+// whose first row already has flow gives itself through its depth column
+// (depths as for DryFoot), as a table rate writes from above the section's
+// lowest point (rate --from) does: the stage less the depth of the first
+// row with a depth, which must lie below the first row's stage, every row
+// with a depth giving the same e within the table's rounding (else warned
+// of, the first kept; Foot.Warning). ok is false for a table whose first
+// row has no flow (see DryFoot), of fewer than two rows, or without a
+// depth; and for a depth putting e at or above the first row, which the
+// Foot's Warning then words.
+func WetFoot(points []gauged.RatingPoint, depths []float64) (f Foot, ok bool) {
+	if len(points) < 2 || !(points[0].Discharge > 0) {
+		return Foot{}, false
+	}
+	f = Foot{dry: -1, dryStage: math.NaN(), wet: 0, wetStage: points[0].Stage, depth: -1, other: -1}
+	if !f.readDepths(points, depths, 0) {
+		return f, false
+	}
+	if !(f.depthE < f.wetStage) {
+		f.doubt = footDepthAtFlow
+		return f, false
+	}
+	f.E, f.FromDepth = f.depthE, true
+	f.checkDepths(points, depths)
+	return f, true
+}
+
+// TableFoot is DryFoot of a table whose first row has no flow, else
+// WetFoot: the gauge height of zero flow a rating table gives itself,
+// as every reader of a rating table for discharge takes it when no flag
+// gives one.
+func TableFoot(points []gauged.RatingPoint, depths []float64) (Foot, bool) {
+	if len(points) > 0 && points[0].Discharge == 0 {
+		return DryFoot(points, depths)
+	}
+	return WetFoot(points, depths)
+}
+
+// readDepths finds the first row with flow and a depth, from f.wet on,
+// and the table's rounding (the finest decimals of its stages and depths
+// read, at least d): false when no row with flow has a depth.
+func (f *Foot) readDepths(points []gauged.RatingPoint, depths []float64, d int) bool {
+	for i := f.wet; i < len(points); i++ {
+		if i < len(depths) && finite(depths[i]) {
+			d = max(d, decimals(points[i].Stage), decimals(depths[i]))
+			if f.depth < 0 {
+				f.depth = i
+			}
+		}
+	}
+	if f.depth < 0 {
+		return false
+	}
+	f.tolerance = footTolerance(d)
+	f.depthStage, f.depthD = points[f.depth].Stage, depths[f.depth]
+	f.depthE = rating.DecimalDifference(f.depthStage, f.depthD)
+	return true
+}
+
+// checkDepths marks the first later row whose stage less depth is not the
+// first row's within the table's rounding (footDepthsDisagree).
+func (f *Foot) checkDepths(points []gauged.RatingPoint, depths []float64) {
 	for i := f.depth + 1; i < len(points) && i < len(depths); i++ {
 		if !finite(depths[i]) {
 			continue
@@ -487,13 +554,52 @@ func DryFoot(points []gauged.RatingPoint, depths []float64) (f Foot, ok bool) {
 			break
 		}
 	}
-	return f, true
 }
 
-// TableDryFoot is DryFoot of a rating table as RatingFromTable reads it
+// OfFit marks a foot read from a rating fit's table (IsFitTable): a fit's
+// table begins at its fitted offset, a row without flow, so when that
+// first row is the table's only dry row and no depth says otherwise, e is
+// the fit's offset, which Note and Source then say.
+func (f Foot) OfFit() Foot {
+	f.fit = f.dry == 0 && !f.FromDepth
+	return f
+}
+
+// Source says where the foot's e was read, in the words of a report's
+// zero_flow_source: the table's depth column, the fit's offset, or the
+// table's last dry row.
+func (f Foot) Source() string {
+	switch {
+	case f.fit:
+		return "the fit's offset, the table's first row"
+	case f.FromDepth:
+		return "the table's depth column"
+	}
+	return "the table's last dry row"
+}
+
+// GivenWarning words the warning of a gauge height of zero flow e given
+// by flag that differs from the one the table's depth column gives (a
+// sound one: FromDepth) by more than the table's rounding; "" when they
+// agree or the table gives none (at as for Note).
+func (f Foot) GivenWarning(e float64, flag string, at func(int) string) string {
+	if !f.FromDepth || f.depth < 0 || !(math.Abs(e-f.depthE) > f.tolerance) {
+		return ""
+	}
+	row := "first row with flow"
+	if f.depth != f.wet {
+		row = "first row with flow and a depth"
+	}
+	return fmt.Sprintf("%s: %s gives the gauge height of zero flow e = %s, but the table's depth column puts the flow's start at %s (the stage less the depth of its %s, %s − %s), "+
+		"apart by more than the table's rounding (%s): the table is read with e = %s as given, and its discharges near zero flow depend on e: check which is the section's",
+		at(f.depth), flag, plainLength(e), plainLength(f.depthE), row, plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.tolerance), plainLength(e))
+}
+
+// TableDryFoot is TableFoot of a rating table as RatingFromTable reads it
 // (its rows' stages, discharges and depths): the gauge height of zero flow
-// the table gives itself when its first row has no flow, for a reader that
-// takes e as every rating-table reader does without a flag giving it.
+// the table gives itself (from its dry first rows, or from its depth
+// column when its first row has flow), for a reader that takes e as every
+// rating-table reader does without a flag giving it.
 func TableDryFoot(t rating.Table) (Foot, bool) {
 	pts := make([]gauged.RatingPoint, len(t.Rows))
 	depths := make([]float64, len(t.Rows))
@@ -501,7 +607,7 @@ func TableDryFoot(t rating.Table) (Foot, bool) {
 		pts[i] = gauged.RatingPoint{Stage: r.Stage, Discharge: r.Discharge}
 		depths[i] = r.Depth
 	}
-	return DryFoot(pts, depths)
+	return TableFoot(pts, depths)
 }
 
 // plainLength writes a length of the foot's note or warning as read.
@@ -529,6 +635,9 @@ func (f Foot) Note(at func(int) string, flag string) string {
 		}
 		return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot, where its depth column puts the flow's start (the stage less the depth of its %s, %s − %s%s): %s",
 			at(f.dry), plainLength(f.E), row, plainLength(f.depthStage), plainLength(f.depthD), in, read)
+	case f.FromDepth && f.dry < 0:
+		return fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage less the depth of the table's %s (%s − %s), below its first row, at %s, which already has flow%s: %s",
+			at(f.depth), plainLength(f.E), row, plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.wetStage), given, read)
 	case f.FromDepth:
 		where := ""
 		if f.depth != f.wet {
@@ -540,6 +649,8 @@ func (f Foot) Note(at func(int) string, flag string) string {
 	note := fmt.Sprintf("%s: the gauge height of zero flow e = %s is the stage of the table's last dry row at its foot%s: %s",
 		at(f.dry), plainLength(f.E), given, read)
 	switch {
+	case f.fit:
+		note += "; a fit's table begins at its fitted offset, so e is the fit's offset (its report's zero_flow stage, to the figures the table writes)"
 	case f.wet < 0:
 	case f.depth < 0:
 		note += fmt.Sprintf("; the flow starts at or above that row and below the first row with flow, at %s, and the table gives no depth to say where "+

@@ -459,7 +459,8 @@ func TestDryRowAboveGivenZeroFlow(t *testing.T) {
 	}
 }
 
-// One rule reads every rating table: e from the zero flow given, else a
+// One rule reads every rating table: e from the zero flow given (said in
+// an input note), else a
 // hydraulic rating written from a section (dry rows at its foot) is read
 // with its own gauge height of zero flow, the stage of its last dry row,
 // said in an input note naming that row and the flag, with no warning; a
@@ -479,10 +480,11 @@ func TestRatingTablesZeroFlowAtDryFoot(t *testing.T) {
 			"hydraulic.csv:3: the gauge height of zero flow e = 0 is the stage of the table's last dry row at its foot (--zero-flow not given): the table is read log-linearly in (h − e) between rows; " +
 				"the flow starts at or above that row and below the first row with flow, at 0.5, and the table gives no depth to say where"},
 		{"at the dry foot, flag named", table, RatingTableOptions{Datum: 100, ZeroFlowFlag: "--hydraulic-zero-flow"}, true, 0, "", "(--hydraulic-zero-flow not given)"},
-		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
+		{"given", table, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "",
+			"hydraulic.csv: the gauge height of zero flow e = 0.2 is given by --zero-flow: the table is read log-linearly in (h − e) between rows"},
 		{"no dry row", wet, RatingTableOptions{Datum: 100}, false, 0,
 			"hydraulic.csv: the table has no row without flow and --zero-flow is not given, so it is read linearly in stage between rows; give --zero-flow E", ""},
-		{"no dry row, given", wet, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", ""},
+		{"no dry row, given", wet, RatingTableOptions{Datum: 100, HasZeroFlow: true, ZeroFlow: 0.2}, true, 0.2, "", "e = 0.2 is given by --zero-flow"},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			rs, err := ParseRatingTables(strings.NewReader(tc.table), "hydraulic.csv", tc.opt)
@@ -562,5 +564,107 @@ func TestZeroFlowColumnWarned(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// Where e came from is said with the rating (ZeroFlowSource), and a given
+// e that differs from the depth column's by more than the table's rounding
+// is warned of; a table whose first row already has flow (rate --from
+// above the lowest point) takes e from its depth column too: stage less
+// depth of its first row with flow and a depth. The rows are Manning's
+// discharge on a triangle with its vertex at 100.37 (triangleQ: Chow 1959),
+// a power law in (h − 100.37) that the log-linear reading with that e
+// gives back exactly between rows.
+func TestRatingTableZeroFlowSources(t *testing.T) {
+	const z, n, slope, bottom = 5.0, 0.035, 0.0015, 100.37
+	table := func(from int, blankFirst bool, fit bool) string {
+		var b strings.Builder
+		b.WriteString("stage,depth,discharge")
+		if fit {
+			b.WriteString(",basis")
+		}
+		b.WriteString("\n")
+		for i := from; i <= 10; i++ {
+			h := rating.StepMultiple(float64(i), 0.1) + 100
+			y := math.Max(0, rating.DecimalDifference(h, bottom))
+			d := strconv.FormatFloat(y, 'f', 4, 64)
+			if blankFirst && i == from {
+				d = ""
+			}
+			fmt.Fprintf(&b, "%s,%s,%s", formatG(h), d, formatG(triangleQ(z, n, slope, y)))
+			if fit {
+				b.WriteString(",fit")
+			}
+			b.WriteString("\n")
+		}
+		return b.String()
+	}
+	for _, tc := range []struct {
+		name, csv string
+		opt       RatingTableOptions
+		e         float64
+		source    string
+		note      string
+		warning   string
+	}{
+		{"depth column", table(0, false, false), RatingTableOptions{}, bottom, "the table's depth column", "e = 100.37 is the stage less the depth", ""},
+		{"given, agreeing within the rounding", table(0, false, false), RatingTableOptions{HasZeroFlow: true, ZeroFlow: 100.38}, 100.38, "given by --zero-flow",
+			"t.csv: the gauge height of zero flow e = 100.38 is given by --zero-flow", ""},
+		{"given, against the depth column", table(0, false, false), RatingTableOptions{HasZeroFlow: true, ZeroFlow: 100.33}, 100.33, "given by --zero-flow",
+			"e = 100.33 is given by --zero-flow",
+			"t.csv:6: --zero-flow gives the gauge height of zero flow e = 100.33, but the table's depth column puts the flow's start at 100.37 (the stage less the depth of its first row with flow, 100.4 − 0.03), apart by more than the table's rounding (0.02)"},
+		{"first row with flow", table(4, false, false), RatingTableOptions{}, bottom, "the table's depth column",
+			"t.csv:2: the gauge height of zero flow e = 100.37 is the stage less the depth of the table's first row with flow (100.4 − 0.03), below its first row, at 100.4, which already has flow (--zero-flow not given)", ""},
+		{"first row with flow, its depth blank", table(4, true, false), RatingTableOptions{}, bottom, "the table's depth column",
+			"t.csv:3: the gauge height of zero flow e = 100.37 is the stage less the depth of the table's first row with flow and a depth (100.5 − 0.13)", ""},
+		{"first row with flow, given against it", table(4, false, false), RatingTableOptions{HasZeroFlow: true, ZeroFlow: 100.3}, 100.3, "given by --zero-flow",
+			"e = 100.3 is given by --zero-flow", "t.csv:2: --zero-flow gives the gauge height of zero flow e = 100.3, but the table's depth column puts the flow's start at 100.37"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			rs, err := ParseRatingTables(strings.NewReader(tc.csv), "t.csv", tc.opt)
+			if err != nil {
+				t.Fatal(err)
+			}
+			rt := rs.Periods[0].Rating
+			if !rt.HasZeroFlow || rt.ZeroFlow != tc.e || rt.ZeroFlowSource != tc.source {
+				t.Errorf("e %v %g from %q, want %g from %q", rt.HasZeroFlow, rt.ZeroFlow, rt.ZeroFlowSource, tc.e, tc.source)
+			}
+			if len(rs.Notes) != 1 || !strings.Contains(rs.Notes[0], tc.note) {
+				t.Errorf("notes %q, want one with %q", rs.Notes, tc.note)
+			}
+			if tc.warning == "" && len(rs.Warnings) > 0 || tc.warning != "" && (len(rs.Warnings) != 1 || !strings.Contains(rs.Warnings[0], tc.warning)) {
+				t.Errorf("warnings %q, want %q", rs.Warnings, tc.warning)
+			}
+			if tc.opt.HasZeroFlow {
+				return
+			}
+			tr, err := rt.Compile()
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, h := range []float64{100.45, 100.55, 100.95} {
+				want := triangleQ(z, n, slope, h-bottom)
+				if q, _ := tr.Discharge(h); math.Abs(q-want) > 1e-5*want {
+					t.Errorf("Q(%g) = %g, want %g (Manning on the triangle)", h, q, want)
+				}
+			}
+		})
+	}
+}
+
+// A fit's table begins at its fitted offset, a row without flow: the note
+// says e is the fit's offset rather than that the flow starts somewhere
+// above that row, and the source says so.
+func TestRatingTableFitOffset(t *testing.T) {
+	const fit = "stage,discharge,extrapolated,basis\n0.612938,0,true,fit below gaugings\n0.65,0.00416444,true,fit below gaugings\n0.74,0.0669896,false,fit\n"
+	rs, err := ParseRatingTables(strings.NewReader(fit), "fit.csv", RatingTableOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rt := rs.Periods[0].Rating
+	if rt.ZeroFlow != 0.612938 || rt.ZeroFlowSource != "the fit's offset, the table's first row" || len(rs.Notes) != 1 ||
+		!strings.Contains(rs.Notes[0], "fit.csv:2: the gauge height of zero flow e = 0.612938 is the stage of the table's last dry row at its foot") ||
+		!strings.Contains(rs.Notes[0], "e is the fit's offset") || strings.Contains(rs.Notes[0], "the flow starts at or above that row") {
+		t.Errorf("e %g from %q, notes %q", rt.ZeroFlow, rt.ZeroFlowSource, rs.Notes)
 	}
 }

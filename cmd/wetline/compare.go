@@ -42,7 +42,7 @@ func (f *compareFlags) register(fs *flagSet) {
 	fs.StringVar(&f.sheetB, "sheet-b", "", "workbook sheet of B (default: the first visible sheet)")
 	fs.StringVar(&f.units, "units", "si", "unit system of both: si (m, m3/s) or us (ft, ft3/s); default: the units written in the headers of A (or B), else si")
 	f.coords.register(fs, true)
-	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows; e may not lie below a row without flow; default: where a table's flow starts, from its depth column, else its last dry row, else linear, with a warning)")
+	fs.Var(&f.zeroFlow, "zero-flow", "ratings: gauge height of zero flow e, one value for both or A,B (log-linear in h − e between rows; e may not lie below a row without flow, nor at or above a row with flow; a gauge height, also with --datum; default: where a table's flow starts, from its depth column, also when its first row has flow, else its last dry row, else linear, with a warning)")
 	fs.Var(&f.datum, "datum", "ratings: subtract from the stages of both, or A,B: read tables of elevations at gauge heights")
 	fs.Float64Var(&f.step, "step", 0, "stage step of the comparison, at its multiples (default: ratings, every row stage of either table; surveys, a round step giving about 50 stages)")
 	fs.Var(&f.stages, "stages", "surveys: compare at these stages (comma-separated, in any order; the rows list them increasing, each once) instead of a range")

@@ -71,7 +71,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.notGiven("slope")
 	fs.StringVar(&f.hydraulicTable, "hydraulic-rating", "", "a hydraulic rating table (stage and discharge columns, as rate writes it) instead of --section: comparison, extension and prior")
 	fs.StringVar(&f.hydraulicSheet, "hydraulic-rating-sheet", "", "workbook sheet of --hydraulic-rating (default: the first visible sheet)")
-	fs.Float64Var(&f.hydraulicZero, "hydraulic-zero-flow", 0, "gauge height of zero flow e of --hydraulic-rating: between rows the table is read log-linearly in (h − e), as shifts, record and compare read a rating given --zero-flow (e may not lie below a row without flow; default: where the table's flow starts, from its depth column, else its last leading row without flow; a table with neither is read linearly, with a warning)")
+	fs.Float64Var(&f.hydraulicZero, "hydraulic-zero-flow", 0, "gauge height of zero flow e of --hydraulic-rating: between rows the table is read log-linearly in (h − e), as shifts, record and compare read a rating given --zero-flow (e may not lie below a row without flow, nor at or above a row with flow; default: where the table's flow starts, from its depth column, also when its first row has flow, else its last leading row without flow; a table with none of these is read linearly, with a warning)")
 	fs.notGiven("hydraulic-zero-flow")
 	fs.Float64Var(&f.datum, "datum", 0, "elevation of the gauge's zero in the survey's datum: elevation = gauge height + DATUM (for --section, --control-section and the stages of --hydraulic-rating)")
 	fs.notGiven("datum")
@@ -96,7 +96,7 @@ func (f *fitFlags) register(fs *flagSet) {
 	fs.StringVar(&f.exclude, "exclude", "", "times of gaugings to leave out of the fit, comma-separated (ISO 8601; a time without an offset is read at --utc-offset, not at a tz column of the file: write one, as 2023-05-27T10:00-06:00, for another; a time that is no gauging's is an error)")
 	fs.StringVar(&f.period, "period", "", "fit only the gaugings of a rating period FROM..TO, from FROM up to, not including, TO, as rating periods run (ISO 8601; either end may be left open; a date alone as TO includes that day, up to the next day's 00:00; a time without an offset is read at --utc-offset)")
 	fs.Var(&f.offset, "utc-offset", "offset ±HH:MM of times written without one, in the gaugings and in --period and --exclude (so a date is a local day); the reports give every time at it (default UTC)")
-	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging)")
+	fs.Float64Var(&f.to, "to", 0, "highest gauge height of the table (default: the top of the hydraulic rating, else the highest gauging; never above the section's lower end, where rate would extend with a wall: the fit does not extrapolate on walls it did not survey)")
 	fs.Float64Var(&f.step, "step", 0, "gauge-height step of the table (default: a round step giving about 50 rows)")
 	f.sectionFlags.register(fs)
 	fs.StringVar(&f.format, "format", "", "output format: text, json, csv or xlsx (a results workbook with the fit, residuals, bands, posterior, lookup sheet and figure; needs -o); default: from the -o extension, else text")
@@ -264,8 +264,8 @@ type hydraulicZero struct {
 // (stage − datum) with the reader the shifts, record and compare commands
 // use (survey.ReadRatingTables), so that it is read as they read a rating:
 // log-linearly in (h − e) between rows, e the gauge height of zero flow
-// zero.e when given, else where the table's flow starts (survey.DryFoot:
-// from its depth column, else its last dry row at its foot); a table with
+// zero.e when given, else where the table's flow starts (survey.TableFoot:
+// from its depth column, also when its first row has flow, else its last dry row at its foot); a table with
 // neither is read linearly in stage, with a warning. The units of its
 // headers must be those decided, or decide them (see
 // unitsDecided.takeTable, which gives the first input note returned; a

@@ -30,7 +30,7 @@ func (f *plotFlags) register(fs *flagSet) {
 	fs.input("section")
 	fs.Lookup("sheet").Usage = "workbook sheet of the survey when --section is a workbook, else of a workbook TABLE (default: the first visible sheet)"
 	fs.StringVar(&f.tableSheet, "table-sheet", "", "sheet of a workbook TABLE (default: --sheet when --section is not a workbook, else the first visible sheet)")
-	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts, from its depth column, else its last dry row; a row without flow above E is warned of)")
+	fs.Float64Var(&f.zeroFlow, "zero-flow", math.NaN(), "gauge height of zero flow for the log–log panel (default: where the table's discharge starts, from its depth column, else its last dry row; a row without flow above E, or with flow at or below it, is warned of)")
 	fs.Float64Var(&f.datum, "datum", 0, "the table's stages are gauge heights on a gauge whose zero lies at this elevation (for the section figure)")
 	fs.notGiven("datum")
 	fs.IntVar(&f.width, "width", plotting.DefaultWidth, "figure width in pixels")
@@ -122,8 +122,12 @@ func runPlot(ctx context.Context, e *env, args []string) error {
 	}
 	zeroFlow := f.zeroFlow
 	warnings := append([]string(nil), t.Warnings...)
-	if foot, ok := survey.TableDryFoot(t); ok && !fs.Changed("zero-flow") && len(fit) == 0 {
-		zeroFlow = foot.E
+	if foot, ok := survey.TableDryFoot(t); ok && !fs.Changed("zero-flow") {
+		if len(fit) == 0 {
+			zeroFlow = foot.E
+		} else {
+			foot = foot.OfFit() // the fit's rows are drawn from their own e, the same first row
+		}
 		at := func(int) string { return survey.Position(path, src.Table.Sheet) }
 		notes = append(notes, foot.Note(at, "--zero-flow"))
 		if w := foot.Warning(at); w != "" {

@@ -48,3 +48,55 @@ func TestPlotDryFootZeroFlow(t *testing.T) {
 		})
 	}
 }
+
+// plot of a fit's table names its e, the fit's offset at its first row,
+// in an input note as it does a rate table's; a given --zero-flow that a
+// table contradicts is warned of in true words: the fit's dry first row
+// above e is not a point "with flow", and a row with flow at or below e
+// gets the explicit warning that the two disagree, as a dry row above e
+// does.
+func TestPlotZeroFlowNotesAndWarnings(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	fit := filepath.Join(dir, "fit.csv")
+	rate := filepath.Join(dir, "rate.csv")
+	if err := os.WriteFile(fit, []byte("stage,discharge,extrapolated,basis\n0.612938,0,true,fit below gaugings\n0.65,0.00416444,true,fit below gaugings\n0.74,0.0669896,false,fit\n1.0,0.5,false,fit\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(rate, []byte("stage,depth,discharge\n0.6,0,0\n0.7,0.09,0.028375\n0.8,0.19,0.167\n1.0,0.39,0.9\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name      string
+		args      []string
+		want, not []string
+	}{
+		{"fit table", []string{"plot", fit}, []string{"gauge height of zero flow e = 0.612938", "e is the fit's offset"}, nil},
+		{"fit table, e below its dry row", []string{"plot", fit, "--zero-flow", "0.5"},
+			[]string{"fit.csv:2: this row, at stage 0.612938, has no flow, yet lies above the gauge height of zero flow 0.5", "1 rating point without flow above the gauge height of zero flow"},
+			[]string{"rating point with flow at or below"}},
+		{"e above a row with flow", []string{"plot", rate, "--zero-flow", "0.75"},
+			[]string{"rate.csv:3: this row, at stage 0.7, carries 0.028375, yet lies at or below the gauge height of zero flow 0.75 that --zero-flow gives: the two disagree"}, nil},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			out := filepath.Join(t.TempDir(), "p")
+			if err := os.MkdirAll(out, 0o755); err != nil {
+				t.Fatal(err)
+			}
+			stdout, errs, code := runCLI(t, append(c.args, "-o", out)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			for _, w := range c.want {
+				if !strings.Contains(stdout+errs, w) {
+					t.Errorf("want %q in:\n%s", w, errs)
+				}
+			}
+			for _, w := range c.not {
+				if strings.Contains(stdout+errs, w) {
+					t.Errorf("do not want %q in:\n%s", w, errs)
+				}
+			}
+		})
+	}
+}

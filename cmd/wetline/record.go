@@ -53,7 +53,7 @@ func (hf *historyFlags) register(fs *flagSet) {
 	fs.StringArrayVar(&hf.ratings, "rating", nil, "rating table FILE (stage and discharge columns), or FILE@TIME for a rating in force from TIME (ISO 8601), "+
 		"or none@TIME for a period without a rating; repeat for each rating period")
 	fs.StringVar(&hf.ratingSheet, "rating-sheet", "", "workbook sheet of every rating given as a workbook (default: the first visible sheet)")
-	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows; e may not lie below a row without flow; default: where a table's flow starts, from its depth column, else its last dry row, else linear, with a warning)")
+	fs.Var(&hf.zeroFlow, "zero-flow", "gauge height of zero flow e of the ratings: one value for all, or one per --rating in order, where the periods without a rating (none@TIME) may be left out (log-linear in h − e between rows; e may not lie below a row without flow, nor at or above a row with flow; a gauge height, also with --datum; default: where a table's flow starts, from its depth column, also when its first row has flow, else its last dry row, else linear, with a warning)")
 	fs.Var(&hf.highest, "highest-gauging", "gauge height of the highest gauging of the ratings: one value for all, or one per --rating, where the periods without a rating (none@TIME) may be left out (default: from an extrapolated column)")
 	fs.BoolVar(&hf.extrapolate, "extrapolate", false, "let the ratings extrapolate beyond their rows (default: no discharge outside a table)")
 	fs.Float64Var(&hf.datum, "datum", 0, "subtract DATUM from the ratings' stages: read a table of elevations (as 'wetline rate' writes) at gauge heights")
@@ -102,12 +102,19 @@ func (hf *historyFlags) parseRatingSpec(s string) (ratingSpec, error) {
 // zeroFlowAbove names --zero-flow in an error of a rating table read with
 // the gauge height of zero flow that flag gave, when that height lies at
 // or above a row with flow, or below a row without flow; other errors are
-// returned as they are.
+// returned as they are. With --datum, the error says that --zero-flow is
+// a gauge height, as the table's stages less the datum are.
 func zeroFlowAbove(cmd string, opt survey.RatingTableOptions, err error) error {
 	if !opt.HasZeroFlow || !errors.Is(err, gauged.ErrZeroFlowAbove) && !errors.Is(err, gauged.ErrDryAboveZeroFlow) {
 		return err
 	}
-	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64), err)
+	e := strconv.FormatFloat(opt.ZeroFlow, 'g', -1, 64)
+	if opt.Datum != 0 {
+		d := strconv.FormatFloat(opt.Datum, 'g', -1, 64)
+		return fmt.Errorf("%s: --zero-flow %s: %w (with --datum %s the table's stages less %s are gauge heights, and --zero-flow is a gauge height too: elevation %s is gauge height %s)",
+			cmd, e, err, d, d, e, strconv.FormatFloat(rating.DecimalDifference(opt.ZeroFlow, opt.Datum), 'g', -1, 64))
+	}
+	return fmt.Errorf("%s: --zero-flow %s: %w", cmd, e, err)
 }
 
 // perRating returns value k of a list flag given once for all ratings or

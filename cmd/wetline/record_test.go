@@ -126,7 +126,7 @@ func TestRecordJSONContract(t *testing.T) {
 		// Rows have the CSV tables' columns, in their order.
 		{jsonKeys(t, firstOf(t, data, "unit")), []string{"time", "stage", "shift", "effective_stage", "discharge", "flags", "rating_period", "quality"}},
 		{jsonKeys(t, firstOf(t, data, "daily")), []string{"date", "mean", "min", "max", "max_time", "coverage", "flags", "min_time", "readings"}},
-		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table"}},
+		{jsonKeys(t, firstOf(t, data, "ratings")), []string{"period", "from", "to", "rating", "zero_flow", "highest_gauging", "extrapolate", "readings", "table", "zero_flow_source"}},
 		{jsonKeys(t, firstOf(t, data, "shifts")), []string{"time", "rating_period", "abrupt", "taper", "points", "source"}},
 	} {
 		if strings.Join(c.got, ",") != strings.Join(c.want, ",") {

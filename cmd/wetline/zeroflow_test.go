@@ -31,6 +31,9 @@ func TestZeroFlowFlagErrors(t *testing.T) {
 			[]string{"record: --zero-flow 0.4: ", "rating-a.csv:3:1", "is at or above a row with flow"}},
 		{"shifts, the second rating", []string{"shifts", recGaugings, "--rating", recRatingA, "--rating", recRatingB + "@2024-05-02", "--zero-flow", "0.2,0.35"}, "rating-b.csv",
 			[]string{"shifts: --zero-flow 0.35: ", "rating-b.csv:3:1", "above a row with flow"}},
+		{"record, with --datum", []string{"record", recStages, "--rating", recRatingA, "--datum", "0.1", "--zero-flow", "50.5"}, "rating-a.csv",
+			[]string{"record: --zero-flow 50.5: ", "rating-a.csv:3:1", "above a row with flow",
+				"with --datum 0.1 the table's stages less 0.1 are gauge heights, and --zero-flow is a gauge height too: elevation 50.5 is gauge height 50.4"}},
 		{"compare", []string{"compare", recRatingA, recRatingB, "--zero-flow", "0.5"}, "rating-a.csv",
 			[]string{"compare: --zero-flow 0.5: ", "rating-a.csv:3:1", "above a row with flow"}},
 	} {
@@ -93,5 +96,16 @@ func TestZeroFlowColumnNamesTheFlag(t *testing.T) {
 				t.Errorf("output:\n%s\nwant %q", all, tc.want)
 			}
 		})
+	}
+}
+
+// The warning of readings rated outside the table names the flag that
+// asked for the extrapolation: the rating table does not ask for it.
+func TestExtrapolatedWarningNamesTheFlag(t *testing.T) {
+	t.Parallel()
+	out := filepath.Join(t.TempDir(), "unit.csv")
+	_, errs, code := runCLI(t, "record", recStages, "--rating", recRatingA, "--extrapolate", "-o", out)
+	if code != 0 || !strings.Contains(errs, "are outside the rating table: discharge extrapolated, as --extrapolate asks") {
+		t.Errorf("exit %d, stderr %q: want the warning naming --extrapolate", code, errs)
 	}
 }

@@ -29,6 +29,10 @@ type RatingTable struct {
 	// rows above e the table is interpolated log-linearly in (h − e).
 	HasZeroFlow bool
 	ZeroFlow    float64
+	// ZeroFlowSource says where ZeroFlow came from, for reports ("given
+	// by --zero-flow", "the table's depth column", "the table's last dry
+	// row"; "" when not said).
+	ZeroFlowSource string
 	// HasHighGauging says whether HighGauging holds the gauge height of the
 	// highest gauging the rating rests on (length unit); effective stages
 	// above it are flagged.

@@ -610,8 +610,8 @@ func (res *Result) summarize(c *counter) {
 			res.Warnings = append(res.Warnings, w)
 		}
 	}
-	say(c.flags[bit(Extrapolated)], "is outside the rating table: discharge extrapolated, as the rating asks",
-		"are outside the rating table: discharge extrapolated, as the rating asks")
+	say(c.flags[bit(Extrapolated)], "is outside the rating table: discharge extrapolated, as --extrapolate asks",
+		"are outside the rating table: discharge extrapolated, as --extrapolate asks")
 	say(c.flags[bit(AboveGaugings)], "is above the highest gauging of its rating", "are above the highest gauging of their rating")
 	if c.gaps > 0 {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("%s longer than %s %s not bridged (the longest %s, from %s)",

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"wetline/rating"
@@ -41,7 +42,7 @@ func WriteRatingComparisonCSV(w io.Writer, c *gauged.RatingComparison) error {
 	bw := bufio.NewWriter(w)
 	writeRecord(bw, RatingComparisonColumns())
 	for _, r := range c.Rows {
-		writeRecord(bw, []string{FormatLength(r.Stage), FormatFloat(r.A), FormatFloat(r.B), FormatFloat(r.Difference), FormatFloat(r.Percent), FormatLength(r.Shift)})
+		writeRecord(bw, []string{comparedStage(r.Stage), FormatFloat(r.A), FormatFloat(r.B), FormatFloat(r.Difference), FormatFloat(r.Percent), FormatLength(r.Shift)})
 	}
 	return bw.Flush()
 }
@@ -119,12 +120,12 @@ func WriteRatingComparisonText(w io.Writer, c *gauged.RatingComparison) error {
 	bw.WriteString(siteLine(c.Provenance))
 	ts := comparedTables(c)
 	fmt.Fprintf(bw, "  A: %s\n  B: %s\n", ratingWords(ts[0].rating, u), ratingWords(ts[1].rating, u))
-	fmt.Fprintf(bw, "Common range of stage: %s to %s %s, within the rows of both tables; %s\n", FormatLength(c.From), FormatLength(c.To), L, extrapolationWords(c))
+	fmt.Fprintf(bw, "Common range of stage: %s to %s %s, within the rows of both tables; %s\n", comparedStage(c.From), comparedStage(c.To), L, extrapolationWords(c))
 	fmt.Fprintf(bw, "Largest difference: %s\n", LargestDifference(c))
 	fmt.Fprintf(bw, "\n  %9s %12s %12s %12s %9s %9s\n", "stage", "A", "B", "B − A", "% diff.", "shift")
 	fmt.Fprintf(bw, "  %9s %12s %12s %12s %9s %9s\n", "("+L+")", "("+Q+")", "("+Q+")", "("+Q+")", "", "("+L+")")
 	for _, r := range c.Rows {
-		fmt.Fprintf(bw, "  %9.3f %12s %12s %12s %9s %9s\n", r.Stage, sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2), fixed(r.Shift, 3))
+		fmt.Fprintf(bw, "  %9s %12s %12s %12s %9s %9s\n", comparedStageText(r.Stage), sig(r.A, 5), sig(r.B, 5), sig(r.Difference, 4), fixed(r.Percent, 2), fixed(r.Shift, 3))
 	}
 	writeTextEnd(bw, c.Warnings)
 	return bw.Flush()
@@ -179,7 +180,7 @@ func WriteRatingComparisonWorkbook(w io.Writer, c *gauged.RatingComparison) erro
 		{"program", programName(c.Provenance), ""},
 		{"site", c.Provenance.Site.String(), ""},
 		{"units", fmt.Sprintf("%s: stage in %s, discharge in %s", u, L, Q), ""},
-		{"common range of stage", fmt.Sprintf("%s to %s (within the rows of both tables)", FormatLength(c.From), FormatLength(c.To)), L},
+		{"common range of stage", fmt.Sprintf("%s to %s (within the rows of both tables)", comparedStage(c.From), comparedStage(c.To)), L},
 		{"extrapolated above the highest gauging", extrapolationWords(c), ""},
 		{"largest difference", LargestDifference(c), ""},
 	}
@@ -408,9 +409,33 @@ func LargestDifference(c *gauged.RatingComparison) string {
 			break
 		}
 	}
-	out := fmt.Sprintf("%s %s at %s %s%s", sig(c.MaxDifference, 4), Q, FormatLength(c.MaxDifferenceStage), L, pct)
+	out := fmt.Sprintf("%s %s at %s %s%s", sig(c.MaxDifference, 4), Q, comparedStage(c.MaxDifferenceStage), L, pct)
 	if !math.IsNaN(c.MaxPercent) && c.MaxStage != c.MaxDifferenceStage {
-		out += fmt.Sprintf("; in percent, %s %% at %s %s", fixed(c.MaxPercentSigned(), 2), FormatLength(c.MaxStage), L)
+		out += fmt.Sprintf("; in percent, %s %% at %s %s", fixed(c.MaxPercentSigned(), 2), comparedStage(c.MaxStage), L)
 	}
 	return out
+}
+
+// comparedStage writes a stage of a comparison as it was compared at: to
+// LengthDecimals decimals (FormatLength) when that is the stage, else in
+// full. The stages are the tables' own rows (a fit's table begins at its
+// offset, written to six significant figures) or round multiples of the
+// step, so writing them rounded would put discharges computed at one
+// stage beside another.
+func comparedStage(v float64) string {
+	s := FormatLength(v)
+	if x, err := strconv.ParseFloat(s, 64); err == nil && x != v && !math.IsInf(v, 0) && math.Abs(v) < 1e12 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	return s
+}
+
+// comparedStageText writes a stage of a comparison's text table to three
+// decimals, or in full when those round it (see comparedStage).
+func comparedStageText(v float64) string {
+	s := strconv.FormatFloat(v, 'f', 3, 64)
+	if x, err := strconv.ParseFloat(s, 64); err == nil && x != v && !math.IsNaN(v) {
+		return comparedStage(v)
+	}
+	return s
 }

@@ -256,7 +256,7 @@ func (rw *rowWriter) dailyCSV(d record.DailyValue, z *time.Location) error {
 // 8601 with the record's offset and flags lists of words; undefined values
 // are null. ratings lists the rating periods used (period, from, to — null
 // at an open end —, rating, zero_flow, highest_gauging, extrapolate,
-// readings, table) and shifts the diagrams (time, rating_period, abrupt,
+// readings, table, zero_flow_source) and shifts the diagrams (time, rating_period, abrupt,
 // taper, points, source). caution is the project's caution and the note
 // that a computed record is provisional; site is null when nothing is
 // known of it; units names the unit system and its units (as shifts and

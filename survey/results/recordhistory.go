@@ -102,9 +102,9 @@ func ratingWords(rt *gauged.RatingTable, u rating.Units) string {
 	}
 	L := u.Length()
 	lo, hi := rt.Points[0].Stage, rt.Points[len(rt.Points)-1].Stage
-	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, rating.Counted(len(rt.Points), "row", "rows"), FormatLength(lo), FormatLength(hi), L)}
+	parts := []string{fmt.Sprintf("%s, %s from %s to %s %s", rt.Name, rating.Counted(len(rt.Points), "row", "rows"), comparedStage(lo), comparedStage(hi), L)}
 	if rt.HasZeroFlow {
-		parts = append(parts, fmt.Sprintf("zero flow at %s %s (log-linear in h − e between rows)", FormatLength(rt.ZeroFlow), L))
+		parts = append(parts, fmt.Sprintf("zero flow at %s %s (%s; log-linear in h − e between rows)", comparedStage(rt.ZeroFlow), L, zeroFlowSource(rt)))
 	} else {
 		parts = append(parts, "no zero-flow stage (linear between rows)")
 	}
@@ -194,6 +194,17 @@ type jsonPeriod struct {
 	Extrapolate    bool            `json:"extrapolate"`
 	Readings       *int            `json:"readings,omitempty"`
 	Table          []jsonRatingRow `json:"table"`
+	ZeroFlowSource *string         `json:"zero_flow_source"`
+}
+
+// zeroFlowSource says where a rating table's gauge height of zero flow
+// came from (gauged.RatingTable.ZeroFlowSource), "given" when the table
+// does not say.
+func zeroFlowSource(rt *gauged.RatingTable) string {
+	if rt.ZeroFlowSource == "" {
+		return "given"
+	}
+	return rt.ZeroFlowSource
 }
 
 // jsonShiftPoint is a point of a shift diagram in JSON.
@@ -221,7 +232,9 @@ func timePtr(t time.Time, z *time.Location) *string {
 }
 
 // jsonPeriods lays out periods for JSON: from and to are null at the open
-// ends, rating null for a period without one.
+// ends, rating null for a period without one, zero_flow and
+// zero_flow_source (where e came from, as a fit's zero_flow source says
+// it) null for a rating without a gauge height of zero flow.
 func jsonPeriods(periods []periodInfo, z *time.Location) []jsonPeriod {
 	out := make([]jsonPeriod, len(periods))
 	for i, p := range periods {
@@ -235,7 +248,8 @@ func jsonPeriods(periods []periodInfo, z *time.Location) []jsonPeriod {
 			name := rt.Name
 			jp.Rating, jp.Extrapolate = &name, rt.Extrapolate
 			if rt.HasZeroFlow {
-				jp.ZeroFlow = Float(rt.ZeroFlow)
+				src := zeroFlowSource(rt)
+				jp.ZeroFlow, jp.ZeroFlowSource = Float(rt.ZeroFlow), &src
 			}
 			if rt.HasHighGauging {
 				jp.HighestGauging = Float(rt.HighGauging)
