@@ -53,3 +53,42 @@ func TestFitRowsExtrapolatedWordRefused(t *testing.T) {
 		t.Errorf("error %v, want ErrExtrapolatedWord at f.csv:3:3", err)
 	}
 }
+
+// A negative depth is refused at its cell; a given zero flow just below a
+// fit table's first row, within the two values' rounding, is read as that
+// row, and one farther below is still refused.
+func TestRatingTableDepthAndGivenRounding(t *testing.T) {
+	dir := t.TempDir()
+	write := func(name, body string) string {
+		path := filepath.Join(dir, name)
+		if err := os.WriteFile(path, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return path
+	}
+	neg := write("neg.csv", "stage,discharge,depth\n100.3,0,0\n100.4,0.3,-0.5\n100.5,1.3,0.2\n")
+	if _, err := survey.ReadRatingTables(neg, survey.RatingTableOptions{}); !errors.Is(err, survey.ErrNegativeDepth) || !strings.Contains(err.Error(), "neg.csv:3:3") {
+		t.Errorf("negative depth: %v, want ErrNegativeDepth at neg.csv:3:3", err)
+	}
+	fit := write("fit.csv", "stage,discharge,extrapolated\n0.324584,0,yes\n0.5,1.2,no\n0.9,6.1,no\n")
+	for _, tc := range []struct {
+		e    float64
+		ok   bool
+		want float64
+	}{
+		{0.3245, true, 0.324584},
+		{0.3245838, true, 0.324584},
+		{0.31, false, 0},
+		{0.3244, false, 0},
+	} {
+		rts, err := survey.ReadRatingTables(fit, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: tc.e})
+		switch {
+		case tc.ok && err != nil:
+			t.Errorf("e %g: %v", tc.e, err)
+		case tc.ok && rts.Periods[0].Rating.ZeroFlow != tc.want:
+			t.Errorf("e %g read as %g, want %g", tc.e, rts.Periods[0].Rating.ZeroFlow, tc.want)
+		case !tc.ok && err == nil:
+			t.Errorf("e %g, %g below the dry row: accepted", tc.e, 0.324584-tc.e)
+		}
+	}
+}

@@ -31,9 +31,13 @@ const (
 	ColRatingDepth = "depth"
 )
 
+// ErrNegativeDepth is the cause of a depth cell below zero: a depth is
+// stage less the section's lowest point.
+var ErrNegativeDepth = errors.New("a depth, stage less the section's lowest point, is never below zero")
+
 // depth reads rec's cell of the depth column cd (-1: none): NaN when
-// blank or absent, a *ParseError for a bad cell or one beyond
-// ±MaxElevation.
+// blank or absent, a *ParseError for a bad cell, one beyond
+// ±MaxElevation or one below zero (ErrNegativeDepth).
 func (t *Table) depth(rec Record, cd int) (float64, *ParseError) {
 	if cd < 0 {
 		return math.NaN(), nil
@@ -41,6 +45,9 @@ func (t *Table) depth(rec Record, cd int) (float64, *ParseError) {
 	v, ok, err := t.bounded(rec, cd, "depth", MaxElevation)
 	if !ok {
 		v = math.NaN()
+	}
+	if err == nil && v < 0 {
+		return math.NaN(), t.At(rec, cd, fmt.Errorf("%q: %w", t.Cell(rec, cd), ErrNegativeDepth))
 	}
 	return v, err
 }
@@ -324,6 +331,7 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 			*warn = append(*warn, fmt.Sprintf("%s: every row is marked extrapolated: no gauging supports the table anywhere, so treat all its discharges as extrapolated (results cannot flag them, as no highest gauging is known)", name))
 		}
 	}
+	raised := raiseToDryRow(rt)
 	err := rt.Validate()
 	var re *gauged.RatingError
 	if errors.As(err, &re) {
@@ -353,6 +361,10 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 		rt.ZeroFlowSource = "given by " + flag
 		*notes = append(*notes, fmt.Sprintf("%s: the gauge height of zero flow e = %s is given by %s: the table is read log-linearly in (h − e) between rows",
 			name, plainLength(rt.ZeroFlow), flag))
+		if raised {
+			*notes = append(*notes, fmt.Sprintf("%s: %s %s lies below the table's last row without flow, %s, by less than the two values' rounding: e is read as that row",
+				name, flag, plainLength(opt.ZeroFlow), plainLength(rt.ZeroFlow)))
+		}
 		if w := f.GivenWarning(rt.ZeroFlow, flag, at); ok && w != "" {
 			*warn = append(*warn, w)
 		}
@@ -373,6 +385,36 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 			"give %s E, its gauge height of zero flow, to read it log-linearly in (h − e)", name, flag, flag))
 	}
 	return gauged.Period{From: g.from, Rating: rt}, nil
+}
+
+// raiseToDryRow raises a given gauge height of zero flow that lies below
+// the table's last leading row without flow by no more than the rounding
+// of the coarser of the two (a unit of its last decimal, the two half
+// units together) to that row's stage, and reports whether it did: a fit's table writes its offset to
+// six significant digits, so its own offset, given in full, may lie just
+// below the row, and a value written to fewer decimals than the row no
+// more contradicts it than the row's own rounding does. A given e farther
+// below is left to Validate (ErrDryAboveZeroFlow).
+func raiseToDryRow(rt *gauged.RatingTable) bool {
+	if !rt.HasZeroFlow {
+		return false
+	}
+	last := -1
+	for i, p := range rt.Points {
+		if p.Discharge != 0 {
+			break
+		}
+		last = i
+	}
+	if last < 0 {
+		return false
+	}
+	dry := rt.Points[last].Stage
+	if !(dry > rt.ZeroFlow) || dry-rt.ZeroFlow > math.Pow10(-min(decimals(dry), decimals(rt.ZeroFlow))) {
+		return false
+	}
+	rt.ZeroFlow = dry
+	return true
 }
 
 // Foot is the gauge height of zero flow a rating table gives itself when
