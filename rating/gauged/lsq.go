@@ -241,8 +241,11 @@ var breakCandidates = [MaxControls + 1]int{0, 0, 24, 16, 12}
 const (
 	// profileGrid and profileGridMore bound the positions of one
 	// breakpoint held at once, for two controls and for more; beyond
-	// them the grid is refined around the least profileRefine minima.
+	// them the grid is refined around the least profileRefine minima
+	// (refineBreak), by levels of about profileLevel positions each, down
+	// to every position within profileFinal of the least.
 	profileGrid, profileGridMore, profileRefine = 64, 24, 2
+	profileLevel, profileFinal                  = 8, 2
 	// profileRounds bounds the rounds over the breakpoints of three or
 	// four controls.
 	profileRounds = 4
@@ -491,13 +494,37 @@ func (p *lsqProblem) residuals(x []float64) []float64 {
 	if !ok {
 		return nil
 	}
-	out := make([]float64, p.d.n())
-	for i, h := range p.d.h {
-		lq := logQ(r, h)
-		if math.IsInf(lq, 0) || math.IsNaN(lq) {
-			return nil
+	return p.d.departures(r)
+}
+
+// departures returns √wᵢ·(ln Qᵢ − ln Q(hᵢ)) of rating r, as logQ gives
+// ln Q, nil where a gauging gets no finite ln Q. The stages being sorted,
+// each control's gaugings are a run of them: a control that replaces the
+// one below gives ln A + C·ln(h − B) with ln A taken once for the run.
+func (d *data) departures(r Rating) []float64 {
+	out := make([]float64, d.n())
+	cs := r.Controls
+	lo := 0
+	for j, c := range cs {
+		hi := len(d.h)
+		if j+1 < len(cs) {
+			hi = lo + sort.SearchFloat64s(d.h[lo:], cs[j+1].From)
 		}
-		out[i] = math.Sqrt(p.d.w[i]) * (p.d.y[i] - lq)
+		lnA := math.Log(c.A)
+		for i := lo; i < hi; i++ {
+			h := d.h[i]
+			var lq float64
+			if j == 0 || c.Joint == Replace {
+				lq = lnA + c.C*math.Log(h-c.B)
+			} else {
+				lq = logQ(r, h)
+			}
+			if math.IsInf(lq, 0) || math.IsNaN(lq) {
+				return nil
+			}
+			out[i] = math.Sqrt(d.w[i]) * (d.y[i] - lq)
+		}
+		lo = hi
 	}
 	return out
 }
@@ -740,12 +767,12 @@ type scanned struct {
 // scanBreak profiles breakpoint j (from 0) of cur over its grid
 // (breakGrid) with the other breakpoints held. It fits at every position
 // when the grid has at most coarse of them, else at coarse positions
-// spread evenly over it and then at every position about the
-// profileRefine least local minima of those, out to the coarse positions
-// beside each. A held fit at a coarse position starts from sequential's
-// start and from the fit at the coarse position before (cur at the
-// first); one about a minimum from the fit beside it on the minimum's
-// side. It returns the local minima of the held fits, best first.
+// spread evenly over it (the last among them), then refines about the
+// profileRefine least local minima of those (refineBreak). A held fit at
+// a coarse position starts from sequential's start and from the fit at
+// the coarse position before (cur at the first); one of a refinement
+// from the fit nearest it on the minimum's side. It returns the local
+// minima of the held fits, best first.
 func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 	br := p.m.breaksOf(cur.full)
 	grid := p.breakGrid(br, j)
@@ -767,11 +794,14 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 	}
 	step := 1
 	if len(grid) > coarse {
-		step = (len(grid) + coarse - 1) / coarse
+		step = (len(grid) + coarse - 2) / (coarse - 1)
 	}
 	var idx []int
 	for i := 0; i < len(grid); i += step {
 		idx = append(idx, i)
+	}
+	if n := len(grid) - 1; n >= 0 && idx[len(idx)-1] != n {
+		idx = append(idx, n)
 	}
 	run(idx, true, cur.full)
 	if step > 1 {
@@ -780,15 +810,7 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 			minima = minima[:profileRefine]
 		}
 		for _, m := range minima {
-			var down, up []int
-			for i := m.i - 1; i > m.i-step && i >= 0; i-- {
-				down = append(down, i)
-			}
-			for i := m.i + 1; i < m.i+step && i < len(grid); i++ {
-				up = append(up, i)
-			}
-			run(down, false, m.full)
-			run(up, false, m.full)
+			refineBreak(done, len(grid), m.i, step, run)
 		}
 	}
 	minima := localMinima(done)
@@ -797,6 +819,75 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 		out[i] = m.heldFit
 	}
 	return out
+}
+
+// refineBreak narrows a profile about the held fit at position c of a
+// grid of n positions, a local minimum of fits step positions apart, by
+// levels: each fits about profileLevel positions evenly over the bracket
+// out to the fitted positions beside the least fit so far in it
+// (c ± step at the first level), then takes the least of them as the
+// centre of a bracket profileLevel/2 times narrower, so that
+// ⌈log(step)/log(profileLevel/2)⌉ levels bring the spacing to one
+// position. The last level fits every position within profileFinal of
+// the centre (gauged stages and the midpoints between them, where the
+// sum of squares has its kinks and the smooth stretches between them),
+// and goes on one position at a time while the least fit lies at the edge
+// of those fitted, so that it ends at a least fit with both its neighbours
+// on the grid fitted. run fits positions in order, each from the fit
+// before it (the second argument false: no fresh start) or from the
+// third argument; done holds the fits.
+func refineBreak(done map[int]scanned, n, c, step int, run func([]int, bool, []float64)) {
+	least := func(lo, hi int) int {
+		best := -1
+		for i := max(lo, 0); i <= min(hi, n-1); i++ {
+			if h, ok := done[i]; ok && (best < 0 || h.better(done[best].heldFit)) {
+				best = i
+			}
+		}
+		return best
+	}
+	// out fits the positions of lo..hi spaced by sp outward from c, each
+	// side from the fit at c.
+	out := func(c, lo, hi, sp int) {
+		from := done[c].full
+		var down, up []int
+		for i := c - sp; i >= max(lo, 0); i -= sp {
+			down = append(down, i)
+		}
+		for i := c + sp; i <= min(hi, n-1); i += sp {
+			up = append(up, i)
+		}
+		run(down, false, from)
+		run(up, false, from)
+	}
+	half := step
+	for half > profileFinal {
+		sp := max(1, (2*half)/profileLevel)
+		out(c, c-half, c+half, sp)
+		if b := least(c-half, c+half); b >= 0 {
+			c = b
+		}
+		half = sp
+	}
+	lo, hi := c-profileFinal, c+profileFinal
+	out(c, lo, hi, 1)
+	for k := 0; k < n; k++ {
+		b := least(lo, hi)
+		if b < 0 {
+			return
+		}
+		switch {
+		case b == lo && lo > 0:
+			lo--
+			run([]int{lo}, false, done[b].full)
+		case b == hi && hi < n-1:
+			hi++
+			run([]int{hi}, false, done[b].full)
+		default:
+			return
+		}
+		c = b
+	}
 }
 
 // profile searches the fitted breakpoints from the starts top (best
