@@ -247,8 +247,10 @@ const (
 	profileGrid, profileGridMore, profileRefine = 64, 24, 2
 	profileLevel, profileFinal                  = 8, 2
 	// profileRounds bounds the rounds over the breakpoints of three or
-	// four controls.
-	profileRounds = 4
+	// four controls one at a time; profilePasses the passes of those
+	// rounds, each followed by a search of the breakpoints two at a time
+	// over profilePairGrid positions each.
+	profileRounds, profilePasses, profilePairGrid = 4, 3, 7
 	// profileRelTol is the relative decrease of the sum of squares a
 	// trial position must make to be preferred.
 	profileRelTol = 1e-12
@@ -256,8 +258,9 @@ const (
 	// which a step of a held fit counts as no progress (the polish that
 	// follows the profile goes on to lmRelTol).
 	profileLMTol = 1e-8
-	// profileLMIter bounds the iterations of a held fit.
-	profileLMIter = 30
+	// profileLMIter bounds the iterations of a held fit, profileScreenIter
+	// those of one that ranks a trial set of breakpoints.
+	profileLMIter, profileScreenIter = 30, 8
 )
 
 // lsqProblem is a least-squares fit in progress.
@@ -326,6 +329,7 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	if err != nil {
 		return nil, err
 	}
+	x, ssr = p.reprofile(x, ssr)
 	if j := p.runaway(x); j >= 0 {
 		return nil, p.runawayError(j, x)
 	}
@@ -341,6 +345,34 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	f.finishLSQ(ssr)
 	f.finishCommon(gs, opt.Selection, reasons, nil)
 	return f, nil
+}
+
+// reprofile moves the breakpoints of three or four controls of the
+// polished solution x (sum of squares ssr) one at a time again (rounds),
+// the polish having moved every parameter at once, and polishes from
+// where that ends, up to profilePasses times while the sum falls. It
+// returns the better solution.
+func (p *lsqProblem) reprofile(x []float64, ssr float64) ([]float64, float64) {
+	if !p.fitBreak || p.m.k() < 3 || p.runaway(x) >= 0 {
+		return x, ssr
+	}
+	for pass := 0; pass < profilePasses; pass++ {
+		full := p.m.full(x)
+		cur, ok := p.holdBreaks(p.m.breaksOf(full), false, full)
+		if !ok {
+			break
+		}
+		end, _ := p.rounds(cur)
+		if !end.better(cur) {
+			break
+		}
+		y, f, err := p.solveFrom([][]float64{end.full})
+		if err != nil || p.runaway(y) >= 0 || !(f < ssr*(1-profileRelTol)) {
+			break
+		}
+		x, ssr = y, f
+	}
+	return x, ssr
 }
 
 // newLSQProblem checks the options and gaugings and lays out the model.
@@ -625,7 +657,11 @@ type lsqStart struct {
 // the control that cannot start.
 func (p *lsqProblem) starts() ([][]float64, error) {
 	keep := 1
-	if p.fitBreak {
+	screen := p.fitBreak && p.m.k() > 2
+	switch {
+	case screen:
+		keep = math.MaxInt
+	case p.fitBreak:
 		keep = multiStart
 	}
 	var top []lsqStart
@@ -657,6 +693,9 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 	default:
 		return nil, errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
 	}
+	if screen {
+		top = p.screen(top)
+	}
 	if p.fitBreak {
 		return p.profile(top), nil
 	}
@@ -665,6 +704,25 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 		out[i] = s.full
 	}
 	return out, nil
+}
+
+// screen ranks the starts of every trial set of breakpoints of three or
+// four controls by a short held fit at each (profileScreenIter steps of
+// Levenberg–Marquardt with the breakpoints held), which sets them apart
+// far better than the sequential starts do. It returns the best
+// multiStart of them, each moved to its held fit, best first, then the
+// best multiStart by the sum of squares of their sequential starts
+// (top's order).
+func (p *lsqProblem) screen(top []lsqStart) []lsqStart {
+	var out []lsqStart
+	for _, s := range top {
+		h, ok := p.holdBreaksIter(p.m.breaksOf(s.full), false, profileScreenIter, s.full)
+		if ok && !h.run {
+			out = append(out, lsqStart{h.full, h.ssr})
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].ssr < out[b].ssr })
+	return append(out[:min(len(out), multiStart)], top[:min(len(top), multiStart)]...)
 }
 
 // heldFit is a fit with the breakpoints held: its full vector, its sum of
@@ -700,6 +758,12 @@ func (m *model) breaksOf(full []float64) []float64 {
 // a rating through every gauging. The fit is the profile's: its search
 // ends at profileLMTol or after profileLMIter steps.
 func (p *lsqProblem) holdBreaks(br []float64, fresh bool, from ...[]float64) (heldFit, bool) {
+	return p.holdBreaksIter(br, fresh, profileLMIter, from...)
+}
+
+// holdBreaksIter is holdBreaks ending each search after at most maxIter
+// steps.
+func (p *lsqProblem) holdBreaksIter(br []float64, fresh bool, maxIter int, from ...[]float64) (heldFit, bool) {
 	m := p.m
 	hm := &model{kinds: m.kinds, joints: m.joints, base: append([]float64(nil), m.base...)}
 	for j, b := range br {
@@ -719,7 +783,7 @@ func (p *lsqProblem) holdBreaks(br []float64, fresh bool, from ...[]float64) (he
 	}
 	best, ok := heldFit{ssr: math.Inf(1), run: true}, false
 	for _, s := range starts {
-		x, f := levenbergTol(hp.residuals, hm.freeOf(s), hp.scale, profileLMTol, profileLMIter)
+		x, f := levenbergTol(hp.residuals, hm.freeOf(s), hp.scale, profileLMTol, maxIter)
 		if math.IsInf(f, 1) {
 			continue
 		}
@@ -917,15 +981,19 @@ func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 				cur, ok = h, true
 			}
 		}
-		for round := 0; ok && round < profileRounds; round++ {
+		for pass := 0; ok && pass < profilePasses; pass++ {
+			var more []heldFit
+			cur, more = p.rounds(cur)
+			ends = append(ends, more...)
 			moved := false
-			ends = ends[:0]
-			for j := 0; j < k-1; j++ {
-				m := p.scanBreak(cur, j, profileGridMore)
-				if len(m) > 0 && m[0].better(cur) {
-					cur, moved = m[0], true
+			for j1 := 0; j1 < k-1; j1++ {
+				for j2 := j1 + 1; j2 < k-1; j2++ {
+					m := p.scanPair(cur, j1, j2)
+					if len(m) > 0 && m[0].better(cur) {
+						cur, moved = m[0], true
+					}
+					ends = append(ends, m...)
 				}
-				ends = append(ends, m...)
 			}
 			if !moved {
 				break
@@ -947,6 +1015,86 @@ func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 	}
 	for _, s := range top {
 		out = append(out, s.full)
+	}
+	return out
+}
+
+// rounds moves the breakpoints of cur one at a time over their grids
+// (scanBreak, profileGridMore positions at a time) to the least sum of
+// squares, the others held, until k − 1 scans in a row move none (at most
+// profileRounds rounds over them). It returns the best held fit and the
+// local minima of the scans.
+func (p *lsqProblem) rounds(cur heldFit) (heldFit, []heldFit) {
+	nb := p.m.k() - 1
+	var ends []heldFit
+	still := 0
+	for s := 0; s < profileRounds*nb && still < nb; s++ {
+		m := p.scanBreak(cur, s%nb, profileGridMore)
+		still++
+		if len(m) > 0 && m[0].better(cur) {
+			cur, still = m[0], 1
+		}
+		ends = append(ends, m...)
+	}
+	return cur, ends
+}
+
+// scanPair profiles breakpoints j1 < j2 (from 0) of cur together, the
+// others held: each at profilePairGrid positions spread evenly over the
+// gauged stages and midpoints it may take (breakGrid with the other
+// breakpoints where cur has them), every pair of positions that leaves
+// each control MinPerSegment gaugings fitted from sequential's start and
+// from cur. Moving two breakpoints at once finds what moving one at a time
+// cannot where the sum of squares falls only as both move. It returns
+// the held fits, best first, at most profileRefine of them.
+func (p *lsqProblem) scanPair(cur heldFit, j1, j2 int) []heldFit {
+	br := p.m.breaksOf(cur.full)
+	lo := append([]float64(nil), br...)
+	if j2 == j1+1 {
+		// j1 may go up to where j2 may reach, j2 down to where j1 may.
+		lo[j2] = math.Inf(1)
+	}
+	g1 := spread(p.breakGrid(lo, j1), profilePairGrid)
+	hi := append([]float64(nil), br...)
+	if j2 == j1+1 {
+		hi[j1] = math.Inf(-1)
+		if j1 > 0 {
+			hi[j1] = br[j1-1]
+		}
+	}
+	g2 := spread(p.breakGrid(hi, j2), profilePairGrid)
+	var out []heldFit
+	try := append([]float64(nil), br...)
+	for _, a := range g1 {
+		for _, b := range g2 {
+			if !(b > a) {
+				continue
+			}
+			try[j1], try[j2] = a, b
+			if !p.segmentsHold(try) {
+				continue
+			}
+			if h, ok := p.holdBreaks(try, true, cur.full); ok {
+				out = append(out, h)
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].better(out[b]) })
+	if len(out) > profileRefine {
+		out = out[:profileRefine]
+	}
+	return out
+}
+
+// spread returns n positions of grid spread evenly over it, its first and
+// last among them (all of it when it has at most n).
+func spread(grid []float64, n int) []float64 {
+	if len(grid) <= n {
+		return grid
+	}
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = grid[i*(len(grid)-1)/(n-1)]
 	}
 	return out
 }
