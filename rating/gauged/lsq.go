@@ -283,15 +283,26 @@ type lsqProblem struct {
 // gaugings leaving each control MinPerSegment of them), the first offset
 // by a profile over trial offsets (Johnson's estimate among them) and each
 // later control by a profile over its own offset under continuity. Fitted
-// breakpoints are then sought over every position they may take, each
-// control keeping MinPerSegment gaugings, by a profile of the sum of
-// squares: a breakpoint is held at each position of a grid of the gauged
-// stages and the midpoints between them, the other parameters fitted
-// there, and the least positions kept; the one breakpoint of two
-// controls over its whole range, those of three or four controls one at
-// a time with the others held, in rounds until none moves (see
-// lsqProblem.profile). The best of these and of the starts are polished
-// by Nelder–Mead and Levenberg–Marquardt with every parameter free.
+// breakpoints are then sought by a profile of the sum of squares over the
+// positions they may take, each control keeping MinPerSegment gaugings:
+// a breakpoint is held at positions of a grid of the gauged stages and
+// the midpoints between them, the other parameters fitted there, first
+// at a coarse spread of positions over its whole range, then about the
+// least of those by levels of a fixed number of positions, each narrower
+// than the last, down to every stage and midpoint beside the least (the
+// sum of squares has kinks at the gauged stages). The one breakpoint of
+// two controls is profiled so over its whole range. Those of three or
+// four controls start from the trial sets ranked by a short fit with the
+// breakpoints held; they are profiled one at a time with the others held,
+// in rounds until none moves, each pass followed by a search of two at a
+// time on a coarse grid (see lsqProblem.profile). The best of these and
+// of the starts are polished by Nelder–Mead and Levenberg–Marquardt with
+// every parameter free, and for three or four controls the polished
+// breakpoints profiled one at a time and polished again while the sum
+// falls. The profile of two controls covers the breakpoint's whole range
+// but fits the least coarse positions' surroundings only, and that of
+// three or four searches from many starts: neither guarantees the least
+// sum over every breakpoint, though each makes a far one unlikely.
 // Standard errors by the delta method from s²·(JᵀWJ)⁻¹.
 //
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
@@ -955,19 +966,20 @@ func refineBreak(done map[int]scanned, n, c, step int, run func([]int, bool, []f
 }
 
 // profile searches the fitted breakpoints from the starts top (best
-// first, sequential's) by a profile of the sum of squares: a breakpoint
-// moved over its grid with the other breakpoints held and the rest of the
-// parameters fitted at every position (scanBreak), to where the sum is
-// least. The one breakpoint of two controls is profiled once, over its
-// whole range (at most profileGrid positions at a time, refined about the
-// least); those of three or four controls one after another from the
-// best of the starts after a held fit (profileGridMore positions at a
-// time), the rounds repeating from the best so far until none moves a
-// breakpoint (at most profileRounds). It returns the full vectors to
-// polish: up to multiStart of the least local minima of the profile, with
-// distinct breakpoints (for more than two controls, those of the last
-// round and its end), then the starts top themselves, so that the polish
-// also goes from every point it went from without the profile.
+// first: for three or four controls, screen's) by a profile of the sum of
+// squares: a breakpoint moved over its grid with the other breakpoints
+// held and the rest of the parameters fitted at each position tried
+// (scanBreak: profileGrid or profileGridMore coarse positions, then
+// levels about the least, refineBreak), to where the sum is least. The
+// one breakpoint of two controls is profiled once, over its whole range;
+// those of three or four controls one after another from the best of the
+// starts after a held fit, in rounds until every breakpoint has been
+// scanned without a move (rounds), then two at a time on a coarse grid
+// (scanPair), the passes repeating from the best so far while a pair
+// moves (at most profilePasses). It returns the full vectors to polish:
+// up to multiStart of the least local minima of the profile, with
+// distinct breakpoints, then the starts top themselves, so that the
+// polish also goes from every point it went from without the profile.
 func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 	k := p.m.k()
 	var ends []heldFit
