@@ -241,11 +241,16 @@ var breakCandidates = [MaxControls + 1]int{0, 0, 24, 16, 12}
 const (
 	// profileGrid and profileGridMore bound the positions of one
 	// breakpoint held at once, for two controls and for more; beyond
-	// them the grid is refined around the least profileRefine minima.
+	// them the grid is refined around the least profileRefine minima
+	// (refineBreak), by levels of about profileLevel positions each, down
+	// to every position within profileFinal of the least.
 	profileGrid, profileGridMore, profileRefine = 64, 24, 2
+	profileLevel, profileFinal                  = 8, 2
 	// profileRounds bounds the rounds over the breakpoints of three or
-	// four controls.
-	profileRounds = 4
+	// four controls one at a time; profilePasses the passes of those
+	// rounds, each followed by a search of the breakpoints two at a time
+	// over profilePairGrid positions each.
+	profileRounds, profilePasses, profilePairGrid = 4, 3, 7
 	// profileRelTol is the relative decrease of the sum of squares a
 	// trial position must make to be preferred.
 	profileRelTol = 1e-12
@@ -253,8 +258,9 @@ const (
 	// which a step of a held fit counts as no progress (the polish that
 	// follows the profile goes on to lmRelTol).
 	profileLMTol = 1e-8
-	// profileLMIter bounds the iterations of a held fit.
-	profileLMIter = 30
+	// profileLMIter bounds the iterations of a held fit, profileScreenIter
+	// those of one that ranks a trial set of breakpoints.
+	profileLMIter, profileScreenIter = 30, 8
 )
 
 // lsqProblem is a least-squares fit in progress.
@@ -277,15 +283,26 @@ type lsqProblem struct {
 // gaugings leaving each control MinPerSegment of them), the first offset
 // by a profile over trial offsets (Johnson's estimate among them) and each
 // later control by a profile over its own offset under continuity. Fitted
-// breakpoints are then sought over every position they may take, each
-// control keeping MinPerSegment gaugings, by a profile of the sum of
-// squares: a breakpoint is held at each position of a grid of the gauged
-// stages and the midpoints between them, the other parameters fitted
-// there, and the least positions kept; the one breakpoint of two
-// controls over its whole range, those of three or four controls one at
-// a time with the others held, in rounds until none moves (see
-// lsqProblem.profile). The best of these and of the starts are polished
-// by Nelder–Mead and Levenberg–Marquardt with every parameter free.
+// breakpoints are then sought by a profile of the sum of squares over the
+// positions they may take, each control keeping MinPerSegment gaugings:
+// a breakpoint is held at positions of a grid of the gauged stages and
+// the midpoints between them, the other parameters fitted there, first
+// at a coarse spread of positions over its whole range, then about the
+// least of those by levels of a fixed number of positions, each narrower
+// than the last, down to every stage and midpoint beside the least (the
+// sum of squares has kinks at the gauged stages). The one breakpoint of
+// two controls is profiled so over its whole range. Those of three or
+// four controls start from the trial sets ranked by a short fit with the
+// breakpoints held; they are profiled one at a time with the others held,
+// in rounds until none moves, each pass followed by a search of two at a
+// time on a coarse grid (see lsqProblem.profile). The best of these and
+// of the starts are polished by Nelder–Mead and Levenberg–Marquardt with
+// every parameter free, and for three or four controls the polished
+// breakpoints profiled one at a time and polished again while the sum
+// falls. The profile of two controls covers the breakpoint's whole range
+// but fits the least coarse positions' surroundings only, and that of
+// three or four searches from many starts: neither guarantees the least
+// sum over every breakpoint, though each makes a far one unlikely.
 // Standard errors by the delta method from s²·(JᵀWJ)⁻¹.
 //
 // Gaugings left out by opt.Selection, their Exclude text or zero discharge
@@ -323,6 +340,7 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	if err != nil {
 		return nil, err
 	}
+	x, ssr = p.reprofile(x, ssr)
 	if j := p.runaway(x); j >= 0 {
 		return nil, p.runawayError(j, x)
 	}
@@ -338,6 +356,34 @@ func FitControls(gs []Gauging, opt ControlOptions) (*ControlFit, error) {
 	f.finishLSQ(ssr)
 	f.finishCommon(gs, opt.Selection, reasons, nil)
 	return f, nil
+}
+
+// reprofile moves the breakpoints of three or four controls of the
+// polished solution x (sum of squares ssr) one at a time again (rounds),
+// the polish having moved every parameter at once, and polishes from
+// where that ends, up to profilePasses times while the sum falls. It
+// returns the better solution.
+func (p *lsqProblem) reprofile(x []float64, ssr float64) ([]float64, float64) {
+	if !p.fitBreak || p.m.k() < 3 || p.runaway(x) >= 0 {
+		return x, ssr
+	}
+	for pass := 0; pass < profilePasses; pass++ {
+		full := p.m.full(x)
+		cur, ok := p.holdBreaks(p.m.breaksOf(full), false, full)
+		if !ok {
+			break
+		}
+		end, _ := p.rounds(cur)
+		if !end.better(cur) {
+			break
+		}
+		y, f, err := p.solveFrom([][]float64{end.full})
+		if err != nil || p.runaway(y) >= 0 || !(f < ssr*(1-profileRelTol)) {
+			break
+		}
+		x, ssr = y, f
+	}
+	return x, ssr
 }
 
 // newLSQProblem checks the options and gaugings and lays out the model.
@@ -491,13 +537,37 @@ func (p *lsqProblem) residuals(x []float64) []float64 {
 	if !ok {
 		return nil
 	}
-	out := make([]float64, p.d.n())
-	for i, h := range p.d.h {
-		lq := logQ(r, h)
-		if math.IsInf(lq, 0) || math.IsNaN(lq) {
-			return nil
+	return p.d.departures(r)
+}
+
+// departures returns √wᵢ·(ln Qᵢ − ln Q(hᵢ)) of rating r, as logQ gives
+// ln Q, nil where a gauging gets no finite ln Q. The stages being sorted,
+// each control's gaugings are a run of them: a control that replaces the
+// one below gives ln A + C·ln(h − B) with ln A taken once for the run.
+func (d *data) departures(r Rating) []float64 {
+	out := make([]float64, d.n())
+	cs := r.Controls
+	lo := 0
+	for j, c := range cs {
+		hi := len(d.h)
+		if j+1 < len(cs) {
+			hi = lo + sort.SearchFloat64s(d.h[lo:], cs[j+1].From)
 		}
-		out[i] = math.Sqrt(p.d.w[i]) * (p.d.y[i] - lq)
+		lnA := math.Log(c.A)
+		for i := lo; i < hi; i++ {
+			h := d.h[i]
+			var lq float64
+			if j == 0 || c.Joint == Replace {
+				lq = lnA + c.C*math.Log(h-c.B)
+			} else {
+				lq = logQ(r, h)
+			}
+			if math.IsInf(lq, 0) || math.IsNaN(lq) {
+				return nil
+			}
+			out[i] = math.Sqrt(d.w[i]) * (d.y[i] - lq)
+		}
+		lo = hi
 	}
 	return out
 }
@@ -598,7 +668,11 @@ type lsqStart struct {
 // the control that cannot start.
 func (p *lsqProblem) starts() ([][]float64, error) {
 	keep := 1
-	if p.fitBreak {
+	screen := p.fitBreak && p.m.k() > 2
+	switch {
+	case screen:
+		keep = math.MaxInt
+	case p.fitBreak:
 		keep = multiStart
 	}
 	var top []lsqStart
@@ -630,6 +704,9 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 	default:
 		return nil, errorf("%w: check the breakpoints and the spread of stages", ErrNoStart)
 	}
+	if screen {
+		top = p.screen(top)
+	}
 	if p.fitBreak {
 		return p.profile(top), nil
 	}
@@ -638,6 +715,25 @@ func (p *lsqProblem) starts() ([][]float64, error) {
 		out[i] = s.full
 	}
 	return out, nil
+}
+
+// screen ranks the starts of every trial set of breakpoints of three or
+// four controls by a short held fit at each (profileScreenIter steps of
+// Levenberg–Marquardt with the breakpoints held), which sets them apart
+// far better than the sequential starts do. It returns the best
+// multiStart of them, each moved to its held fit, best first, then the
+// best multiStart by the sum of squares of their sequential starts
+// (top's order).
+func (p *lsqProblem) screen(top []lsqStart) []lsqStart {
+	var out []lsqStart
+	for _, s := range top {
+		h, ok := p.holdBreaksIter(p.m.breaksOf(s.full), false, profileScreenIter, s.full)
+		if ok && !h.run {
+			out = append(out, lsqStart{h.full, h.ssr})
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].ssr < out[b].ssr })
+	return append(out[:min(len(out), multiStart)], top[:min(len(top), multiStart)]...)
 }
 
 // heldFit is a fit with the breakpoints held: its full vector, its sum of
@@ -673,6 +769,12 @@ func (m *model) breaksOf(full []float64) []float64 {
 // a rating through every gauging. The fit is the profile's: its search
 // ends at profileLMTol or after profileLMIter steps.
 func (p *lsqProblem) holdBreaks(br []float64, fresh bool, from ...[]float64) (heldFit, bool) {
+	return p.holdBreaksIter(br, fresh, profileLMIter, from...)
+}
+
+// holdBreaksIter is holdBreaks ending each search after at most maxIter
+// steps.
+func (p *lsqProblem) holdBreaksIter(br []float64, fresh bool, maxIter int, from ...[]float64) (heldFit, bool) {
 	m := p.m
 	hm := &model{kinds: m.kinds, joints: m.joints, base: append([]float64(nil), m.base...)}
 	for j, b := range br {
@@ -692,7 +794,7 @@ func (p *lsqProblem) holdBreaks(br []float64, fresh bool, from ...[]float64) (he
 	}
 	best, ok := heldFit{ssr: math.Inf(1), run: true}, false
 	for _, s := range starts {
-		x, f := levenbergTol(hp.residuals, hm.freeOf(s), hp.scale, profileLMTol, profileLMIter)
+		x, f := levenbergTol(hp.residuals, hm.freeOf(s), hp.scale, profileLMTol, maxIter)
 		if math.IsInf(f, 1) {
 			continue
 		}
@@ -740,12 +842,12 @@ type scanned struct {
 // scanBreak profiles breakpoint j (from 0) of cur over its grid
 // (breakGrid) with the other breakpoints held. It fits at every position
 // when the grid has at most coarse of them, else at coarse positions
-// spread evenly over it and then at every position about the
-// profileRefine least local minima of those, out to the coarse positions
-// beside each. A held fit at a coarse position starts from sequential's
-// start and from the fit at the coarse position before (cur at the
-// first); one about a minimum from the fit beside it on the minimum's
-// side. It returns the local minima of the held fits, best first.
+// spread evenly over it (the last among them), then refines about the
+// profileRefine least local minima of those (refineBreak). A held fit at
+// a coarse position starts from sequential's start and from the fit at
+// the coarse position before (cur at the first); one of a refinement
+// from the fit nearest it on the minimum's side. It returns the local
+// minima of the held fits, best first.
 func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 	br := p.m.breaksOf(cur.full)
 	grid := p.breakGrid(br, j)
@@ -767,11 +869,14 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 	}
 	step := 1
 	if len(grid) > coarse {
-		step = (len(grid) + coarse - 1) / coarse
+		step = (len(grid) + coarse - 2) / (coarse - 1)
 	}
 	var idx []int
 	for i := 0; i < len(grid); i += step {
 		idx = append(idx, i)
+	}
+	if n := len(grid) - 1; n >= 0 && idx[len(idx)-1] != n {
+		idx = append(idx, n)
 	}
 	run(idx, true, cur.full)
 	if step > 1 {
@@ -780,15 +885,7 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 			minima = minima[:profileRefine]
 		}
 		for _, m := range minima {
-			var down, up []int
-			for i := m.i - 1; i > m.i-step && i >= 0; i-- {
-				down = append(down, i)
-			}
-			for i := m.i + 1; i < m.i+step && i < len(grid); i++ {
-				up = append(up, i)
-			}
-			run(down, false, m.full)
-			run(up, false, m.full)
+			refineBreak(done, len(grid), m.i, step, run)
 		}
 	}
 	minima := localMinima(done)
@@ -799,20 +896,90 @@ func (p *lsqProblem) scanBreak(cur heldFit, j, coarse int) []heldFit {
 	return out
 }
 
+// refineBreak narrows a profile about the held fit at position c of a
+// grid of n positions, a local minimum of fits step positions apart, by
+// levels: each fits about profileLevel positions evenly over the bracket
+// out to the fitted positions beside the least fit so far in it
+// (c ± step at the first level), then takes the least of them as the
+// centre of a bracket profileLevel/2 times narrower, so that
+// ⌈log(step)/log(profileLevel/2)⌉ levels bring the spacing to one
+// position. The last level fits every position within profileFinal of
+// the centre (gauged stages and the midpoints between them, where the
+// sum of squares has its kinks and the smooth stretches between them),
+// and goes on one position at a time while the least fit lies at the edge
+// of those fitted, so that it ends at a least fit with both its neighbours
+// on the grid fitted. run fits positions in order, each from the fit
+// before it (the second argument false: no fresh start) or from the
+// third argument; done holds the fits.
+func refineBreak(done map[int]scanned, n, c, step int, run func([]int, bool, []float64)) {
+	least := func(lo, hi int) int {
+		best := -1
+		for i := max(lo, 0); i <= min(hi, n-1); i++ {
+			if h, ok := done[i]; ok && (best < 0 || h.better(done[best].heldFit)) {
+				best = i
+			}
+		}
+		return best
+	}
+	// out fits the positions of lo..hi spaced by sp outward from c, each
+	// side from the fit at c.
+	out := func(c, lo, hi, sp int) {
+		from := done[c].full
+		var down, up []int
+		for i := c - sp; i >= max(lo, 0); i -= sp {
+			down = append(down, i)
+		}
+		for i := c + sp; i <= min(hi, n-1); i += sp {
+			up = append(up, i)
+		}
+		run(down, false, from)
+		run(up, false, from)
+	}
+	half := step
+	for half > profileFinal {
+		sp := max(1, (2*half)/profileLevel)
+		out(c, c-half, c+half, sp)
+		if b := least(c-half, c+half); b >= 0 {
+			c = b
+		}
+		half = sp
+	}
+	lo, hi := c-profileFinal, c+profileFinal
+	out(c, lo, hi, 1)
+	for k := 0; k < n; k++ {
+		b := least(lo, hi)
+		if b < 0 {
+			return
+		}
+		switch {
+		case b == lo && lo > 0:
+			lo--
+			run([]int{lo}, false, done[b].full)
+		case b == hi && hi < n-1:
+			hi++
+			run([]int{hi}, false, done[b].full)
+		default:
+			return
+		}
+		c = b
+	}
+}
+
 // profile searches the fitted breakpoints from the starts top (best
-// first, sequential's) by a profile of the sum of squares: a breakpoint
-// moved over its grid with the other breakpoints held and the rest of the
-// parameters fitted at every position (scanBreak), to where the sum is
-// least. The one breakpoint of two controls is profiled once, over its
-// whole range (at most profileGrid positions at a time, refined about the
-// least); those of three or four controls one after another from the
-// best of the starts after a held fit (profileGridMore positions at a
-// time), the rounds repeating from the best so far until none moves a
-// breakpoint (at most profileRounds). It returns the full vectors to
-// polish: up to multiStart of the least local minima of the profile, with
-// distinct breakpoints (for more than two controls, those of the last
-// round and its end), then the starts top themselves, so that the polish
-// also goes from every point it went from without the profile.
+// first: for three or four controls, screen's) by a profile of the sum of
+// squares: a breakpoint moved over its grid with the other breakpoints
+// held and the rest of the parameters fitted at each position tried
+// (scanBreak: profileGrid or profileGridMore coarse positions, then
+// levels about the least, refineBreak), to where the sum is least. The
+// one breakpoint of two controls is profiled once, over its whole range;
+// those of three or four controls one after another from the best of the
+// starts after a held fit, in rounds until every breakpoint has been
+// scanned without a move (rounds), then two at a time on a coarse grid
+// (scanPair), the passes repeating from the best so far while a pair
+// moves (at most profilePasses). It returns the full vectors to polish:
+// up to multiStart of the least local minima of the profile, with
+// distinct breakpoints, then the starts top themselves, so that the
+// polish also goes from every point it went from without the profile.
 func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 	k := p.m.k()
 	var ends []heldFit
@@ -826,15 +993,19 @@ func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 				cur, ok = h, true
 			}
 		}
-		for round := 0; ok && round < profileRounds; round++ {
+		for pass := 0; ok && pass < profilePasses; pass++ {
+			var more []heldFit
+			cur, more = p.rounds(cur)
+			ends = append(ends, more...)
 			moved := false
-			ends = ends[:0]
-			for j := 0; j < k-1; j++ {
-				m := p.scanBreak(cur, j, profileGridMore)
-				if len(m) > 0 && m[0].better(cur) {
-					cur, moved = m[0], true
+			for j1 := 0; j1 < k-1; j1++ {
+				for j2 := j1 + 1; j2 < k-1; j2++ {
+					m := p.scanPair(cur, j1, j2)
+					if len(m) > 0 && m[0].better(cur) {
+						cur, moved = m[0], true
+					}
+					ends = append(ends, m...)
 				}
-				ends = append(ends, m...)
 			}
 			if !moved {
 				break
@@ -856,6 +1027,86 @@ func (p *lsqProblem) profile(top []lsqStart) [][]float64 {
 	}
 	for _, s := range top {
 		out = append(out, s.full)
+	}
+	return out
+}
+
+// rounds moves the breakpoints of cur one at a time over their grids
+// (scanBreak, profileGridMore positions at a time) to the least sum of
+// squares, the others held, until k − 1 scans in a row move none (at most
+// profileRounds rounds over them). It returns the best held fit and the
+// local minima of the scans.
+func (p *lsqProblem) rounds(cur heldFit) (heldFit, []heldFit) {
+	nb := p.m.k() - 1
+	var ends []heldFit
+	still := 0
+	for s := 0; s < profileRounds*nb && still < nb; s++ {
+		m := p.scanBreak(cur, s%nb, profileGridMore)
+		still++
+		if len(m) > 0 && m[0].better(cur) {
+			cur, still = m[0], 1
+		}
+		ends = append(ends, m...)
+	}
+	return cur, ends
+}
+
+// scanPair profiles breakpoints j1 < j2 (from 0) of cur together, the
+// others held: each at profilePairGrid positions spread evenly over the
+// gauged stages and midpoints it may take (breakGrid with the other
+// breakpoints where cur has them), every pair of positions that leaves
+// each control MinPerSegment gaugings fitted from sequential's start and
+// from cur. Moving two breakpoints at once finds what moving one at a time
+// cannot where the sum of squares falls only as both move. It returns
+// the held fits, best first, at most profileRefine of them.
+func (p *lsqProblem) scanPair(cur heldFit, j1, j2 int) []heldFit {
+	br := p.m.breaksOf(cur.full)
+	lo := append([]float64(nil), br...)
+	if j2 == j1+1 {
+		// j1 may go up to where j2 may reach, j2 down to where j1 may.
+		lo[j2] = math.Inf(1)
+	}
+	g1 := spread(p.breakGrid(lo, j1), profilePairGrid)
+	hi := append([]float64(nil), br...)
+	if j2 == j1+1 {
+		hi[j1] = math.Inf(-1)
+		if j1 > 0 {
+			hi[j1] = br[j1-1]
+		}
+	}
+	g2 := spread(p.breakGrid(hi, j2), profilePairGrid)
+	var out []heldFit
+	try := append([]float64(nil), br...)
+	for _, a := range g1 {
+		for _, b := range g2 {
+			if !(b > a) {
+				continue
+			}
+			try[j1], try[j2] = a, b
+			if !p.segmentsHold(try) {
+				continue
+			}
+			if h, ok := p.holdBreaks(try, true, cur.full); ok {
+				out = append(out, h)
+			}
+		}
+	}
+	sort.SliceStable(out, func(a, b int) bool { return out[a].better(out[b]) })
+	if len(out) > profileRefine {
+		out = out[:profileRefine]
+	}
+	return out
+}
+
+// spread returns n positions of grid spread evenly over it, its first and
+// last among them (all of it when it has at most n).
+func spread(grid []float64, n int) []float64 {
+	if len(grid) <= n {
+		return grid
+	}
+	out := make([]float64, n)
+	for i := range out {
+		out[i] = grid[i*(len(grid)-1)/(n-1)]
 	}
 	return out
 }
