@@ -55,8 +55,8 @@ func TestFitRowsExtrapolatedWordRefused(t *testing.T) {
 }
 
 // A negative depth is refused at its cell; a given zero flow just below a
-// fit table's first row, within the two values' rounding, is read as that
-// row, and one farther below is still refused.
+// fit table's first row, within a unit of the table's finest decimal, is
+// read as that row, and one farther below is still refused.
 func TestRatingTableDepthAndGivenRounding(t *testing.T) {
 	dir := t.TempDir()
 	write := func(name, body string) string {
@@ -76,10 +76,11 @@ func TestRatingTableDepthAndGivenRounding(t *testing.T) {
 		ok   bool
 		want float64
 	}{
-		{0.3245, true, 0.324584},
-		{0.3245838, true, 0.324584},
+		{0.3245838, true, 0.324584}, // within the row's 6 decimals
+		{0.324584, true, 0.324584},
+		{0.3245, false, 0}, // rounded by hand: 8.4e-5 below
 		{0.31, false, 0},
-		{0.3244, false, 0},
+		{0.32, false, 0}, // fewer decimals buy no tolerance
 	} {
 		rts, err := survey.ReadRatingTables(fit, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: tc.e})
 		switch {
@@ -90,5 +91,14 @@ func TestRatingTableDepthAndGivenRounding(t *testing.T) {
 		case !tc.ok && err == nil:
 			t.Errorf("e %g, %g below the dry row: accepted", tc.e, 0.324584-tc.e)
 		}
+	}
+	// A table of one decimal: its dry row 0.3 stands for 0.25 to 0.35, so
+	// e = 0.21 contradicts it; 0.26 is that row.
+	coarse := write("coarse.csv", "stage,discharge\n0.2,0\n0.30,0\n0.4,0.5\n0.6,2.1\n")
+	if _, err := survey.ReadRatingTables(coarse, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.21}); err == nil {
+		t.Error("e 0.21 below a dry row at 0.3 accepted")
+	}
+	if rts, err := survey.ReadRatingTables(coarse, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.26}); err != nil || rts.Periods[0].Rating.ZeroFlow != 0.3 {
+		t.Errorf("e 0.26: %v, want it read as the dry row 0.3", err)
 	}
 }

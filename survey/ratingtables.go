@@ -359,11 +359,12 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 	switch {
 	case rt.HasZeroFlow:
 		rt.ZeroFlowSource = "given by " + flag
-		*notes = append(*notes, fmt.Sprintf("%s: the gauge height of zero flow e = %s is given by %s: the table is read log-linearly in (h − e) between rows",
-			name, plainLength(rt.ZeroFlow), flag))
 		if raised {
-			*notes = append(*notes, fmt.Sprintf("%s: %s %s lies below the table's last row without flow, %s, by less than the two values' rounding: e is read as that row",
-				name, flag, plainLength(opt.ZeroFlow), plainLength(rt.ZeroFlow)))
+			*notes = append(*notes, fmt.Sprintf("%s: the gauge height of zero flow %s given by %s lies below the table's last row without flow, %s, within the table's rounding: e = %s, that row; the table is read log-linearly in (h − e) between rows",
+				name, plainLength(opt.ZeroFlow), flag, plainLength(rt.ZeroFlow), plainLength(rt.ZeroFlow)))
+		} else {
+			*notes = append(*notes, fmt.Sprintf("%s: the gauge height of zero flow e = %s is given by %s: the table is read log-linearly in (h − e) between rows",
+				name, plainLength(rt.ZeroFlow), flag))
 		}
 		if w := f.GivenWarning(rt.ZeroFlow, flag, at); ok && w != "" {
 			*warn = append(*warn, w)
@@ -388,13 +389,12 @@ func (g ratingGroup) period(t *Table, cs, cq int, hasX bool, opt RatingTableOpti
 }
 
 // raiseToDryRow raises a given gauge height of zero flow that lies below
-// the table's last leading row without flow by no more than the rounding
-// of the coarser of the two (a unit of its last decimal, the two half
-// units together) to that row's stage, and reports whether it did: a fit's table writes its offset to
+// the table's last leading row without flow by no more than a unit of the
+// last decimal of the table's finest stage (dryRowRounding) to that row's
+// stage, and reports whether it did: a fit's table writes its offset to
 // six significant digits, so its own offset, given in full, may lie just
-// below the row, and a value written to fewer decimals than the row no
-// more contradicts it than the row's own rounding does. A given e farther
-// below is left to Validate (ErrDryAboveZeroFlow).
+// below the row. A given e farther below is left to Validate
+// (ErrDryAboveZeroFlow).
 func raiseToDryRow(rt *gauged.RatingTable) bool {
 	if !rt.HasZeroFlow {
 		return false
@@ -409,12 +409,30 @@ func raiseToDryRow(rt *gauged.RatingTable) bool {
 	if last < 0 {
 		return false
 	}
+	stages := make([]float64, len(rt.Points))
+	for i, p := range rt.Points {
+		stages[i] = p.Stage
+	}
 	dry := rt.Points[last].Stage
-	if !(dry > rt.ZeroFlow) || dry-rt.ZeroFlow > math.Pow10(-min(decimals(dry), decimals(rt.ZeroFlow))) {
+	if !(dry > rt.ZeroFlow) || dry-rt.ZeroFlow > dryRowRounding(stages) {
 		return false
 	}
 	rt.ZeroFlow = dry
 	return true
+}
+
+// dryRowRounding is how far below a table's dry row a given gauge height
+// of zero flow may lie and still be that row: half a unit of the last
+// decimal of the table's finest stage (the row's rounding, with 1e-12 of
+// the largest stage's size for the float64 reading of both). A table's
+// stages are taken to be written to the decimals of its finest one, as
+// for footTolerance.
+func dryRowRounding(stages []float64) float64 {
+	d, size := 0, 1.0
+	for _, h := range stages {
+		d, size = max(d, decimals(h)), max(size, math.Abs(h))
+	}
+	return 0.5*math.Pow10(-d) + 1e-12*size
 }
 
 // Foot is the gauge height of zero flow a rating table gives itself when
