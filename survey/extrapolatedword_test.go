@@ -76,7 +76,7 @@ func TestRatingTableDepthAndGivenRounding(t *testing.T) {
 		ok   bool
 		want float64
 	}{
-		{0.3245838, true, 0.324584}, // within the row's 6 decimals
+		{0.3245838, true, 0.324584}, // within half a unit of the row's sixth significant digit
 		{0.324584, true, 0.324584},
 		{0.3245, false, 0}, // rounded by hand: 8.4e-5 below
 		{0.31, false, 0},
@@ -92,13 +92,12 @@ func TestRatingTableDepthAndGivenRounding(t *testing.T) {
 			t.Errorf("e %g, %g below the dry row: accepted", tc.e, 0.324584-tc.e)
 		}
 	}
-	// A table of one decimal: its dry row 0.3 stands for 0.25 to 0.35, so
-	// e = 0.21 contradicts it; 0.26 is that row.
+	// A table on a coarse grid (rate's 0.3 is 0.3000): its dry row is
+	// exact, so e = 0.25 or 0.29 contradicts it.
 	coarse := write("coarse.csv", "stage,discharge\n0.2,0\n0.30,0\n0.4,0.5\n0.6,2.1\n")
-	if _, err := survey.ReadRatingTables(coarse, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.21}); err == nil {
-		t.Error("e 0.21 below a dry row at 0.3 accepted")
-	}
-	if rts, err := survey.ReadRatingTables(coarse, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: 0.26}); err != nil || rts.Periods[0].Rating.ZeroFlow != 0.3 {
-		t.Errorf("e 0.26: %v, want it read as the dry row 0.3", err)
+	for _, e := range []float64{0.21, 0.25, 0.29} {
+		if _, err := survey.ReadRatingTables(coarse, survey.RatingTableOptions{HasZeroFlow: true, ZeroFlow: e}); err == nil {
+			t.Errorf("e %g below a dry row at 0.3 accepted", e)
+		}
 	}
 }

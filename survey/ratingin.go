@@ -196,13 +196,9 @@ func RatingFromTableGiven(t *Table, choice UnitChoice, zero ZeroFlowGiven) (rati
 // none does (rows of t in rising stage, their rows' numbers in at).
 func dryAboveGiven(t *Table, rows []rating.Row, at []int, zero ZeroFlowGiven) string {
 	k := -1
-	stages := make([]float64, len(rows))
 	for i, r := range rows {
-		stages[i] = r.Stage
-	}
-	tol := dryRowRounding(stages) // as the other commands read it (raiseToDryRow)
-	for i, r := range rows {
-		if r.Discharge == 0 && r.Stage-zero.Value > tol {
+		// As the other commands read it (raiseToDryRow).
+		if r.Discharge == 0 && r.Stage-zero.Value > dryRowRounding(r.Stage) {
 			k = i
 		}
 	}

@@ -409,30 +409,27 @@ func raiseToDryRow(rt *gauged.RatingTable) bool {
 	if last < 0 {
 		return false
 	}
-	stages := make([]float64, len(rt.Points))
-	for i, p := range rt.Points {
-		stages[i] = p.Stage
-	}
 	dry := rt.Points[last].Stage
-	if !(dry > rt.ZeroFlow) || dry-rt.ZeroFlow > dryRowRounding(stages) {
+	if !(dry > rt.ZeroFlow) || dry-rt.ZeroFlow > dryRowRounding(dry) {
 		return false
 	}
 	rt.ZeroFlow = dry
 	return true
 }
 
-// dryRowRounding is how far below a table's dry row a given gauge height
-// of zero flow may lie and still be that row: half a unit of the last
-// decimal of the table's finest stage (the row's rounding, with 1e-12 of
-// the largest stage's size for the float64 reading of both). A table's
-// stages are taken to be written to the decimals of its finest one, as
-// for footTolerance.
-func dryRowRounding(stages []float64) float64 {
-	d, size := 0, 1.0
-	for _, h := range stages {
-		d, size = max(d, decimals(h)), max(size, math.Abs(h))
+// dryRowRounding is how far below a table's dry row at stage dry a given
+// gauge height of zero flow may lie and still be that row: half a unit of
+// its sixth significant digit, the precision at which results CSV tables
+// write their numbers (a fit's first row is its offset so written), with
+// 1e-12 of its size for the float64 reading of both. A table's coarser
+// looking stages (0.6 for 0.6000) buy no more: rate writes its stages
+// exactly to 0.1 mm.
+func dryRowRounding(dry float64) float64 {
+	size := math.Max(1, math.Abs(dry))
+	if dry == 0 {
+		return 1e-12
 	}
-	return 0.5*math.Pow10(-d) + 1e-12*size
+	return 0.5*math.Pow10(int(math.Floor(math.Log10(math.Abs(dry))))-5) + 1e-12*size
 }
 
 // Foot is the gauge height of zero flow a rating table gives itself when
