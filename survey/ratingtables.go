@@ -730,7 +730,8 @@ func (f Foot) Warning(at func(int) string) string {
 			at(f.other), plainLength(f.otherE), plainLength(f.depthE), at(f.depth), plainLength(f.tolerance), plainLength(f.E))
 	case footDepthBelowDry:
 		return fmt.Sprintf("%s: stage less depth, %s − %s = %s, lies below the table's last dry row at %s (%s), which has no flow: "+
-			"the depth is not counted from where the flow starts, so the gauge height of zero flow is that row's stage: check the depth column",
+			"the depth is not counted from where the flow starts (rate counts it from the section's lowest point, which may be the floor of a pocket behind higher ground that holds no flow), "+
+			"so the gauge height of zero flow is that row's stage; if the section has no such pocket, check the depth column",
 			at(f.depth), plainLength(f.depthStage), plainLength(f.depthD), plainLength(f.depthE), plainLength(f.dryStage), at(f.dry))
 	case footDepthAtFlow:
 		return fmt.Sprintf("%s: stage less depth, %s − %s = %s, is not below the stage of the table's first row with flow, %s: "+

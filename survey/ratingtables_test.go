@@ -414,7 +414,8 @@ func TestDryFootDepthWarnings(t *testing.T) {
 		{"depths disagree", "stage,depth,discharge\n100.3,0,0\n100.4,0.03,0.0037\n100.5,0.13,0.12\n100.6,0.33,0.43\n", 100.37,
 			"t.csv:5: stage less depth is 100.27 here but 100.37 at the first row with flow and a depth (t.csv:3), apart by more than the table's rounding (0.02)"},
 		{"below the dry row", "stage,depth,discharge\n100.3,0.15,0\n100.4,0.25,0.0037\n100.5,0.35,0.12\n", 100.3,
-			"t.csv:3: stage less depth, 100.4 − 0.25 = 100.15, lies below the table's last dry row at 100.3 (t.csv:2), which has no flow"},
+			"t.csv:3: stage less depth, 100.4 − 0.25 = 100.15, lies below the table's last dry row at 100.3 (t.csv:2), which has no flow: " +
+				"the depth is not counted from where the flow starts (rate counts it from the section's lowest point, which may be the floor of a pocket"},
 		{"at flow", "stage,depth,discharge\n100.3,0,0\n100.4,0,0.0037\n100.5,0.1,0.12\n", 100.3,
 			"t.csv:3: stage less depth, 100.4 − 0 = 100.4, is not below the stage of the table's first row with flow, 100.4"},
 	} {
