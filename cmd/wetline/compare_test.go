@@ -10,10 +10,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/xuri/excelize/v2"
-
 	"wetline/plotting"
-	"wetline/survey/results"
 )
 
 const (
@@ -321,22 +318,8 @@ func TestCompareSectionsDates(t *testing.T) {
 	if _, errs, code := runCLI(t, "compare", a, b, "--stages", "12", "-o", book); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	f, err := excelize.OpenFile(book)
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	rows, err := f.GetRows(results.SheetSummary)
-	if err != nil {
-		t.Fatal(err)
-	}
-	got := map[string]string{}
-	for _, r := range rows {
-		if len(r) >= 2 {
-			got[r[0]] = r[1]
-		}
-	}
+	got := summaryItems(t, book)
 	if got["survey A surveyed"] != "2020-01-14" || got["survey B surveyed"] != "2023-06-21" {
-		t.Errorf("summary rows %q", rows)
+		t.Errorf("summary items %q", got)
 	}
 }

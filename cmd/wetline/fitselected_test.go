@@ -13,8 +13,8 @@ import (
 	"wetline/survey/results"
 )
 
-// fitSummaryItems reads the summary sheet of a fit workbook: item → value.
-func fitSummaryItems(t *testing.T, book string) map[string]string {
+// summaryItems reads the summary sheet of a results workbook: item → value.
+func summaryItems(t *testing.T, book string) map[string]string {
 	t.Helper()
 	f, err := excelize.OpenFile(book)
 	if err != nil {
@@ -87,7 +87,7 @@ func TestFitComparisonSelected(t *testing.T) {
 	if _, errs, code := runCLI(t, append(append([]string{"fit"}, args...), "-o", book)...); code != 0 {
 		t.Fatalf("workbook: exit %d: %s", code, errs)
 	}
-	items := fitSummaryItems(t, book)
+	items := summaryItems(t, book)
 	if v, err := strconv.ParseFloat(items["geometric mean departure from the hydraulic rating"], 64); err != nil || math.Abs(v-mean) > 0.05 {
 		t.Errorf("workbook: geometric mean departure %q, want %.1f", items["geometric mean departure from the hydraulic rating"], mean)
 	}
@@ -110,7 +110,7 @@ func TestFitWorkbookSelection(t *testing.T) {
 	if _, errs, code := runCLI(t, args...); code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	items := fitSummaryItems(t, book)
+	items := summaryItems(t, book)
 	// 26 gaugings before the boundary, less the first (before the period),
 	// the one marked exclude and the two listed: 22 of 30.
 	for item, want := range map[string]string{
