@@ -116,6 +116,28 @@ func (cmp *Comparison) summarise() {
 	}
 }
 
+// FarOffFactor is the factor by which a hydraulic rating's geometric mean
+// departure from the gaugings it is compared with makes it far off, worth
+// a warning before an extension or prior rests on it (a project choice:
+// such a departure says more of a wrong datum, slope or n than of the
+// control).
+const FarOffFactor = 2
+
+// farOffWarning words the warning of a comparison whose geometric mean
+// departure lies beyond FarOffFactor either way, "" otherwise.
+func (cmp Comparison) farOffWarning() string {
+	m := cmp.MeanLogDeparturePercent
+	if math.IsNaN(m) {
+		return ""
+	}
+	if r := 1 + m/100; r < FarOffFactor && r > 1/float64(FarOffFactor) {
+		return ""
+	}
+	return sayf("the hydraulic rating departs from the gaugings by %+.0f %% on their geometric mean (%d of %d compared outside their quality bands), beyond a factor of %d: "+
+		"check --datum, --slope and the section's n before resting the comparison, an extension or a prior on it",
+		m, cmp.Outside, cmp.Compared(), FarOffFactor)
+}
+
 // stageOrNaN turns an inverse rating into one that gives NaN where it
 // has no stage.
 func stageOrNaN(stage func(q float64) (float64, error)) func(float64) float64 {

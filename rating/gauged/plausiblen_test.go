@@ -105,3 +105,32 @@ func TestRHatText(t *testing.T) {
 		}
 	}
 }
+
+// A hydraulic rating off the gaugings by more than FarOffFactor on their
+// geometric mean is warned of; one within it is not. The gaugings are the
+// section's own Manning discharges (Chow, 1959, eq. 6-9) scaled by 3 and
+// by 1.5, so the geometric mean departure is exactly +200 % and +50 %.
+func TestAnalyzeFarOffHydraulicRating(t *testing.T) {
+	p := compound(t, 0.03, 0.05)
+	c := rating.HydraulicCurve{Geometry: p, Options: rating.Options{Slope: 0.001}, Datum: 9.5}
+	for _, tc := range []struct {
+		scale float64
+		warn  bool
+	}{{3, true}, {1.5, false}, {1.0 / 3, true}} {
+		gs := sample(t, p, []float64{1.0, 1.6, 2.2, 2.7, 3.1})
+		for i := range gs {
+			gs[i].Discharge *= tc.scale
+		}
+		r, err := gauged.Analyze(gs, gauged.Options{Hydraulic: &c, CompareOnly: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := strings.Contains(strings.Join(r.Warnings, "\n"), "the hydraulic rating departs from the gaugings by")
+		if got != tc.warn {
+			t.Errorf("scale %g: warned %v, want %v (%q)", tc.scale, got, tc.warn, r.Warnings)
+		}
+		if want := 100 * (tc.scale - 1); math.Abs(r.Comparison.MeanLogDeparturePercent-want) > 1e-6 {
+			t.Errorf("scale %g: geometric mean departure %g %%, want %g", tc.scale, r.Comparison.MeanLogDeparturePercent, want)
+		}
+	}
+}

@@ -360,6 +360,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		cmp.summariseOver(opt.Controls.Selection)
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
+		if w := cmp.farOffWarning(); w != "" {
+			r.Warnings = append(r.Warnings, w)
+		}
 		cal, err := calibrate(gs, *c, opt.ChannelOnly, opt.Controls.Selection)
 		if err != nil && !errors.Is(err, ErrCalibrate) {
 			return err
@@ -383,6 +386,9 @@ func (r *Report) compare(gs []Gauging, ref reference, opt Options) error {
 		cmp.summariseOver(opt.Controls.Selection)
 		r.Comparison = &cmp
 		r.Warnings = append(r.Warnings, cmp.Warnings...)
+		if w := cmp.farOffWarning(); w != "" {
+			r.Warnings = append(r.Warnings, w)
+		}
 		for _, p := range ref.tab.table.Points {
 			r.Curve = append(r.Curve, CurvePoint{Stage: p.Stage, Hydraulic: p.Discharge, Calibrated: math.NaN()})
 		}
